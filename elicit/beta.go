@@ -1,0 +1,172 @@
+package elicit
+
+import (
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Beta is the Beta(α, β) distribution on [0, 1], with density
+// f(x) = x^(α−1) (1−x)^(β−1) / B(α, β) (Johnson, Kotz & Balakrishnan 1995,
+// "Continuous Univariate Distributions", vol. 2, ch. 25).
+// The zero value is invalid; check with Validate or build with NewBeta.
+type Beta struct {
+	Alpha float64 `json:"alpha"`
+	Beta  float64 `json:"beta"`
+}
+
+// NewBeta returns Beta(α, β) after checking that both are finite and > 0.
+func NewBeta(alpha, beta float64) (Beta, error) {
+	d := Beta{Alpha: alpha, Beta: beta}
+	return d, d.Validate()
+}
+
+// Validate reports whether α and β are finite and positive. gonum panics
+// on invalid parameters, so every entry point checks this first.
+func (d Beta) Validate() error {
+	if err := checkPositive("alpha", d.Alpha); err != nil {
+		return err
+	}
+	return checkPositive("beta", d.Beta)
+}
+
+func checkPositive(field string, v float64) error {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return inputErr(field, RuleFinite, "got %v", v)
+	}
+	if v <= 0 {
+		return inputErr(field, RulePositive, "got %v", v)
+	}
+	return nil
+}
+
+func (d Beta) dist() distuv.Beta { return distuv.Beta{Alpha: d.Alpha, Beta: d.Beta} }
+
+// PDF is the density at x; 0 outside [0, 1].
+func (d Beta) PDF(x float64) float64 {
+	if x < 0 || x > 1 {
+		return 0
+	}
+	return d.dist().Prob(x)
+}
+
+// CDF is P(X ≤ x), the regularised incomplete beta function I_x(α, β).
+func (d Beta) CDF(x float64) float64 {
+	switch {
+	case x <= 0:
+		return 0
+	case x >= 1:
+		return 1
+	}
+	return d.dist().CDF(x)
+}
+
+// Quantile is the inverse CDF at p in [0, 1].
+func (d Beta) Quantile(p float64) float64 {
+	switch {
+	case p <= 0:
+		return 0
+	case p >= 1:
+		return 1
+	}
+	return d.dist().Quantile(p)
+}
+
+// Mean is α/(α+β).
+func (d Beta) Mean() float64 { return d.Alpha / (d.Alpha + d.Beta) }
+
+// Variance is αβ / ((α+β)²(α+β+1)).
+func (d Beta) Variance() float64 {
+	s := d.Alpha + d.Beta
+	return d.Alpha * d.Beta / (s * s * (s + 1))
+}
+
+// SD is the standard deviation.
+func (d Beta) SD() float64 { return math.Sqrt(d.Variance()) }
+
+// ESS is the effective sample size α+β: the number of imagined trials the
+// prior is worth under the Beta–binomial conjugate update.
+func (d Beta) ESS() float64 { return d.Alpha + d.Beta }
+
+// Mode is (α−1)/(α+β−2) when α, β > 1. Otherwise the density has no
+// interior maximum and ok is false; x is then the boundary where the
+// density is largest (0 or 1), or NaN for Beta(1,1) and U shapes.
+func (d Beta) Mode() (x float64, ok bool) {
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a > 1 && b > 1:
+		return (a - 1) / (a + b - 2), true
+	case a <= 1 && b > 1, a < 1 && b == 1:
+		return 0, false
+	case b <= 1 && a > 1, b < 1 && a == 1:
+		return 1, false
+	}
+	return math.NaN(), false
+}
+
+// ScaledBeta is the four-parameter Beta on [Lower, Upper]: X = Lower +
+// (Upper−Lower)·Y with Y ~ Beta(α, β). With Lower 0 and Upper 1 it is Beta.
+type ScaledBeta struct {
+	Beta
+	Lower float64 `json:"lower"`
+	Upper float64 `json:"upper"`
+}
+
+// Unit returns the Beta on [0, 1] as a ScaledBeta.
+func Unit(d Beta) ScaledBeta { return ScaledBeta{Beta: d, Lower: 0, Upper: 1} }
+
+// NewScaledBeta checks the parameters and the bounds.
+func NewScaledBeta(alpha, beta, lower, upper float64) (ScaledBeta, error) {
+	d := ScaledBeta{Beta: Beta{alpha, beta}, Lower: lower, Upper: upper}
+	return d, d.Validate()
+}
+
+// Validate checks α, β and that Lower < Upper are finite.
+func (d ScaledBeta) Validate() error {
+	if err := d.Beta.Validate(); err != nil {
+		return err
+	}
+	return checkBounds(d.Lower, d.Upper)
+}
+
+func checkBounds(lower, upper float64) error {
+	if math.IsNaN(lower) || math.IsInf(lower, 0) {
+		return inputErr("lower", RuleFinite, "got %v", lower)
+	}
+	if math.IsNaN(upper) || math.IsInf(upper, 0) {
+		return inputErr("upper", RuleFinite, "got %v", upper)
+	}
+	if !(lower < upper) {
+		return inputErr("lower", RuleBoundsOrder, "lower %v, upper %v", lower, upper)
+	}
+	return nil
+}
+
+func (d ScaledBeta) width() float64           { return d.Upper - d.Lower }
+func (d ScaledBeta) toUnit(x float64) float64 { return (x - d.Lower) / d.width() }
+
+// PDF is the density at x on the quantity's scale.
+func (d ScaledBeta) PDF(x float64) float64 { return d.Beta.PDF(d.toUnit(x)) / d.width() }
+
+// CDF is P(X ≤ x).
+func (d ScaledBeta) CDF(x float64) float64 { return d.Beta.CDF(d.toUnit(x)) }
+
+// Quantile is the inverse CDF on the quantity's scale.
+func (d ScaledBeta) Quantile(p float64) float64 {
+	return d.Lower + d.width()*d.Beta.Quantile(p)
+}
+
+// Mean is Lower + (Upper−Lower)·α/(α+β).
+func (d ScaledBeta) Mean() float64 { return d.Lower + d.width()*d.Beta.Mean() }
+
+// Variance is (Upper−Lower)² times the unit Beta's variance.
+func (d ScaledBeta) Variance() float64 { return d.width() * d.width() * d.Beta.Variance() }
+
+// SD is the standard deviation on the quantity's scale.
+func (d ScaledBeta) SD() float64 { return math.Sqrt(d.Variance()) }
+
+// Mode maps the unit Beta's mode to the quantity's scale.
+func (d ScaledBeta) Mode() (float64, bool) {
+	m, ok := d.Beta.Mode()
+	return d.Lower + d.width()*m, ok
+}

@@ -1,0 +1,168 @@
+package elicit
+
+import "time"
+
+// AnswerFormat is how experts answer a question.
+type AnswerFormat string
+
+// The answer formats a question can ask for.
+const (
+	// FormatQuantiles asks for values at the question's probabilities
+	// (5/50/95 by default; quartiles, tertiles or a custom set).
+	FormatQuantiles AnswerFormat = "quantiles"
+	// FormatInterval asks for four values: lowest, highest, best estimate,
+	// and the expert's confidence that the truth lies between lowest and
+	// highest. See FourValue.
+	FormatInterval AnswerFormat = "interval"
+	// FormatChips asks the expert to place chips in bins (trial roulette).
+	FormatChips AnswerFormat = "chips"
+)
+
+// Workshop is one elicitation exercise: a panel of experts answering a set
+// of questions over one or more Delphi rounds.
+type Workshop struct {
+	ID       int64     `json:"id"`
+	Title    string    `json:"title"`
+	Purpose  string    `json:"purpose"`
+	Decision string    `json:"decision"` // the decision the prior feeds
+	Notes    string    `json:"notes"`    // facilitator's notes, not shown to experts
+	Round    int       `json:"round"`    // current round, from 1
+	Open     bool      `json:"round_open"`
+	Invented bool      `json:"invented"` // demo data of an invented scenario
+	Created  time.Time `json:"created"`
+}
+
+// Question is one uncertain quantity the panel is asked about.
+type Question struct {
+	ID         int64        `json:"id"`
+	WorkshopID int64        `json:"workshop_id"`
+	Position   int          `json:"position"`
+	Wording    string       `json:"wording"` // what experts read
+	Quantity   string       `json:"quantity"`
+	Units      string       `json:"units"`
+	Lower      float64      `json:"lower"`
+	Upper      float64      `json:"upper"`
+	Format     AnswerFormat `json:"format"`
+	// Probs are the cumulative probabilities asked for in FormatQuantiles.
+	Probs []float64 `json:"probs,omitempty"`
+	// BinEdges are the chip bins' edges in FormatChips, from Lower to Upper.
+	BinEdges []float64 `json:"bin_edges,omitempty"`
+	// Chips is the number of chips each expert places in FormatChips.
+	Chips int `json:"chips,omitempty"`
+	// Calibration marks a seed question whose true value the facilitator
+	// knows; TrueValue stays hidden from experts until Revealed.
+	Calibration bool     `json:"calibration"`
+	TrueValue   *float64 `json:"true_value,omitempty"`
+	Revealed    bool     `json:"revealed"`
+}
+
+// Expert is a panel member. Access tokens are a storage concern and are
+// not part of this type.
+type Expert struct {
+	ID          int64     `json:"id"`
+	WorkshopID  int64     `json:"workshop_id"`
+	Name        string    `json:"name"`
+	Affiliation string    `json:"affiliation,omitempty"`
+	Expertise   string    `json:"expertise,omitempty"`
+	Revoked     bool      `json:"revoked"`
+	Created     time.Time `json:"created"`
+}
+
+// Answer is what an expert entered, in the question's format. Only the
+// fields of that format are set.
+type Answer struct {
+	// Values at the question's Probs (FormatQuantiles).
+	Values []float64 `json:"values,omitempty"`
+	// Lowest, Highest, Best and Confidence (FormatInterval); Confidence is
+	// a probability in (0, 1).
+	Lowest     float64 `json:"lowest,omitempty"`
+	Highest    float64 `json:"highest,omitempty"`
+	Best       float64 `json:"best,omitempty"`
+	Confidence float64 `json:"confidence,omitempty"`
+	// Counts of chips per bin (FormatChips).
+	Counts []int `json:"counts,omitempty"`
+}
+
+// Revision is one saved answer. Revisions are never changed or deleted:
+// an expert's current judgement on a question is their latest revision.
+type Revision struct {
+	ID         int64     `json:"id"`
+	QuestionID int64     `json:"question_id"`
+	ExpertID   int64     `json:"expert_id"`
+	Round      int       `json:"round"`
+	At         time.Time `json:"at"`
+	Reason     string    `json:"reason,omitempty"`
+	Answer     Answer    `json:"answer"`
+}
+
+// EventKind names a facilitator decision.
+type EventKind string
+
+// The facilitator decisions that are recorded as events.
+const (
+	EventWorkshopCreated EventKind = "workshop_created"
+	EventRoundClosed     EventKind = "round_closed"
+	EventRoundOpened     EventKind = "round_opened"
+	EventWeightsSet      EventKind = "weights_set"
+	EventPriorAgreed     EventKind = "prior_agreed"
+	EventTruthRevealed   EventKind = "truth_revealed"
+	EventExpertAdded     EventKind = "expert_added"
+	EventExpertRevoked   EventKind = "expert_revoked"
+	EventTokenReissued   EventKind = "token_reissued"
+	EventQuestionAdded   EventKind = "question_added"
+)
+
+// Event is one facilitator decision with its time and reason. Detail holds
+// the decision's data as JSON (weights, the agreed Beta, ...).
+type Event struct {
+	ID         int64     `json:"id"`
+	WorkshopID int64     `json:"workshop_id"`
+	QuestionID int64     `json:"question_id,omitempty"` // 0 when workshop-wide
+	Kind       EventKind `json:"kind"`
+	At         time.Time `json:"at"`
+	Reason     string    `json:"reason,omitempty"`
+	Detail     string    `json:"detail,omitempty"`
+}
+
+// WeightScheme says where pool weights came from.
+type WeightScheme string
+
+// The weight schemes.
+const (
+	WeightsEqual       WeightScheme = "equal"
+	WeightsCustom      WeightScheme = "custom"
+	WeightsPerformance WeightScheme = "performance" // Cooke's classical model
+)
+
+// Weights are the facilitator's current pool weights for a workshop.
+type Weights struct {
+	WorkshopID int64             `json:"workshop_id"`
+	Scheme     WeightScheme      `json:"scheme"`
+	ByExpert   map[int64]float64 `json:"by_expert,omitempty"` // unnormalised; empty for equal
+	Reason     string            `json:"reason,omitempty"`
+	At         time.Time         `json:"at"`
+}
+
+// PriorSource says how an agreed prior was reached.
+type PriorSource string
+
+// The sources of an agreed prior.
+const (
+	// PriorFromPool is the single Beta that best represents the pool.
+	PriorFromPool PriorSource = "pool"
+	// PriorFromConsensus is a Beta fitted to a judgement the group agreed.
+	PriorFromConsensus PriorSource = "consensus"
+)
+
+// AgreedPrior is the prior the panel settled on for a question. Every
+// agreement is kept; the latest is the current one.
+type AgreedPrior struct {
+	ID         int64       `json:"id"`
+	QuestionID int64       `json:"question_id"`
+	Source     PriorSource `json:"source"`
+	Dist       ScaledBeta  `json:"dist"`
+	Consensus  *Answer     `json:"consensus,omitempty"`
+	Rationale  string      `json:"rationale"`
+	Round      int         `json:"round"`
+	At         time.Time   `json:"at"`
+}

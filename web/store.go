@@ -1,0 +1,58 @@
+package web
+
+import (
+	"context"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Store is what the web layer needs from persistence. store.DB implements
+// it; handlers never see SQL. Lookups of a missing row return an error
+// for which errors.Is(err, elicit.ErrNotFound) holds; a save outside an
+// open round returns one for which errors.Is(err, elicit.ErrRoundClosed).
+type Store interface {
+	// Workshops
+	CreateWorkshop(ctx context.Context, w *elicit.Workshop) error // sets ID, Created, Round=1, Open=true; records EventWorkshopCreated
+	UpdateWorkshop(ctx context.Context, w elicit.Workshop) error  // title, purpose, decision, notes only
+	Workshop(ctx context.Context, id int64) (elicit.Workshop, error)
+	Workshops(ctx context.Context) ([]elicit.Workshop, error)
+	// SetRound closes the current round (open=false) or opens round n
+	// (open=true, n = current+1), recording the event with its reason in
+	// the same transaction.
+	SetRound(ctx context.Context, workshopID int64, round int, open bool, reason string) error
+
+	// Questions
+	AddQuestion(ctx context.Context, q *elicit.Question) error // sets ID, Position; records EventQuestionAdded
+	Question(ctx context.Context, id int64) (elicit.Question, error)
+	Questions(ctx context.Context, workshopID int64) ([]elicit.Question, error)
+	// SetTrueValue stores or reveals a calibration question's true value,
+	// recording EventTruthRevealed when reveal is true.
+	SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error
+
+	// Experts and their access tokens (only hashes are stored).
+	AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte) error // records EventExpertAdded
+	Expert(ctx context.Context, id int64) (elicit.Expert, error)
+	Experts(ctx context.Context, workshopID int64) ([]elicit.Expert, error)
+	ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Expert, error) // revoked experts are not found
+	ReissueToken(ctx context.Context, expertID int64, tokenHash []byte, reason string) error
+	RevokeExpert(ctx context.Context, expertID int64, reason string) error
+
+	// Revisions: append-only. SaveRevision fails with elicit.ErrRoundClosed when
+	// the workshop's round is not open; it sets ID, Round and At.
+	SaveRevision(ctx context.Context, r *elicit.Revision) error
+	Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) // oldest first
+
+	// Facilitator decisions.
+	SetWeights(ctx context.Context, w *elicit.Weights) error                          // records EventWeightsSet
+	Weights(ctx context.Context, workshopID int64) (elicit.Weights, error)            // equal when never set
+	AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error                      // records EventPriorAgreed
+	AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.AgreedPrior, error) // oldest first
+	Events(ctx context.Context, workshopID int64) ([]elicit.Event, error)             // oldest first
+
+	// Facilitator sign-in.
+	FacilitatorHash(ctx context.Context) ([]byte, error) // nil, nil when none set
+	SetFacilitatorHash(ctx context.Context, hash []byte) error
+	CreateSession(ctx context.Context, tokenHash []byte, expires time.Time) error
+	SessionValid(ctx context.Context, tokenHash []byte, now time.Time) (bool, error)
+}
