@@ -1,0 +1,62 @@
+// Command parley runs Parley's elicitation workshop server and its
+// scripting commands (fit, pool, update, calibrate, export, backup, ...).
+//
+// Each subcommand lives in its own file and registers itself with
+// command(); this file only dispatches. Exit status: 0 on success, 2 on bad
+// input (one line on stderr naming the field and the rule), 1 on any other
+// failure.
+package main
+
+import (
+	"fmt"
+	"io"
+	"os"
+	"sort"
+)
+
+// subcommand is one `parley NAME` command. It returns the exit status.
+type subcommand struct {
+	summary string
+	run     func(args []string, stdin io.Reader, stdout, stderr io.Writer) int
+}
+
+var commands = map[string]subcommand{}
+
+// command registers a subcommand; called from each command file's init.
+func command(name, summary string, run func(args []string, stdin io.Reader, stdout, stderr io.Writer) int) {
+	commands[name] = subcommand{summary: summary, run: run}
+}
+
+func main() {
+	os.Exit(dispatch(os.Args[1:], os.Stdin, os.Stdout, os.Stderr))
+}
+
+// dispatch runs the named subcommand; with no arguments it serves.
+func dispatch(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	name := "serve"
+	if len(args) > 0 {
+		name, args = args[0], args[1:]
+	}
+	if name == "help" || name == "-h" || name == "--help" {
+		usage(stdout)
+		return 0
+	}
+	c, ok := commands[name]
+	if !ok {
+		fmt.Fprintf(stderr, "parley: unknown command %q (run `parley help`)\n", name)
+		return 2
+	}
+	return c.run(args, stdin, stdout, stderr)
+}
+
+func usage(w io.Writer) {
+	fmt.Fprintln(w, "usage: parley [command] [flags]   (no command: serve)")
+	names := make([]string, 0, len(commands))
+	for n := range commands {
+		names = append(names, n)
+	}
+	sort.Strings(names)
+	for _, n := range names {
+		fmt.Fprintf(w, "  %-18s %s\n", n, commands[n].summary)
+	}
+}
