@@ -1,0 +1,155 @@
+package chart
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/a-h/templ"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// FitView is one expert's fitted Beta for one question, with the points
+// they stated. Percentiles are the fit's 5th, 50th and 95th percentiles.
+type FitView struct {
+	ID          string // unique on the page; prefixes the SVG's aria ids
+	Quantity    string
+	Units       string
+	Lower       float64
+	Upper       float64
+	Dist        elicit.ScaledBeta
+	Points      []Point
+	Percentiles [3]float64
+}
+
+// percentileProbs are the probabilities of FitView.Percentiles.
+var percentileProbs = [3]float64{0.05, 0.5, 0.95}
+
+type pointGeom struct {
+	CX, CY string
+	X, P   string // data values, full precision
+}
+
+type markGeom struct {
+	X      string // pixel column
+	LabelX string
+	Anchor string
+	Top    string
+	Bottom string
+	LabelY string
+	Label  string
+	Value  string
+}
+
+type fitRow struct {
+	Chance, Stated, Fitted, FittedChance string
+}
+
+type fitModel struct {
+	ID      string
+	Twin    twinGeom
+	Title   string
+	Desc    string
+	Points  []pointGeom
+	Marks   []markGeom
+	Rows    []fitRow
+	Pcts    [3]string
+	Params  string
+	Units   string
+	Invalid string // non-empty when the view cannot be drawn
+}
+
+// Fit draws the density and CDF of one expert's fitted Beta with their
+// stated points on the CDF, the fitted 5/50/95 percentiles marked, and a
+// table of stated against fitted numbers.
+func Fit(v FitView) templ.Component {
+	return fitFigure(newFitModel(v))
+}
+
+func newFitModel(v FitView) fitModel {
+	m := fitModel{ID: v.ID, Units: v.Units}
+	if m.ID == "" {
+		m.ID = "fit"
+	}
+	if err := v.Dist.Validate(); err != nil {
+		m.Invalid = "No picture: the fitted distribution is not valid (" + err.Error() + ")."
+		return m
+	}
+	var xs []float64
+	for _, p := range v.Points {
+		xs = append(xs, p.X)
+	}
+	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist}
+	g := newTwin(v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true)
+	m.Twin = g
+
+	for _, p := range v.Points {
+		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
+			continue
+		}
+		m.Points = append(m.Points, pointGeom{
+			CX: coord(g.cumul.px(p.X)), CY: coord(g.cumul.py(p.P)),
+			X: fmt.Sprint(p.X), P: fmt.Sprint(p.P),
+		})
+		m.Rows = append(m.Rows, fitRow{
+			Chance:       FormatPercent(p.P),
+			Stated:       FormatValue(p.X),
+			Fitted:       FormatValue(v.Dist.Quantile(p.P)),
+			FittedChance: FormatPercent(v.Dist.CDF(p.X)),
+		})
+	}
+
+	names := [3]string{"5%", "median", "95%"}
+	lastPx := -1e9
+	for i, x := range v.Percentiles {
+		m.Pcts[i] = FormatValue(x)
+		if !isFinite(x) || x < g.X0 || x > g.X1 {
+			continue
+		}
+		px := g.dens.px(x)
+		ly := g.dens.Top - 8
+		if px-lastPx < 46 { // stagger labels that would overlap
+			ly -= 14
+		}
+		lastPx = px
+		// Keep labels near the plot's edges inside the picture.
+		anchor, lx := "middle", px
+		switch {
+		case px-g.dens.Left < 40:
+			anchor, lx = "start", px-4
+		case g.dens.right()-px < 40:
+			anchor, lx = "end", px+4
+		}
+		m.Marks = append(m.Marks, markGeom{
+			X: coord(px), Top: coord(g.dens.Top), Bottom: coord(g.cumul.bottom()),
+			LabelX: coord(lx), Anchor: anchor,
+			LabelY: coord(ly), Label: names[i] + " " + formatSig(x, 3), Value: fmt.Sprint(x),
+		})
+	}
+
+	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatValue(v.Dist.Alpha), FormatValue(v.Dist.Beta.Beta))
+	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
+	m.Desc = fitDescription(v, m, g)
+	return m
+}
+
+// fitDescription says in words what the picture shows, for the caption and
+// screen readers.
+func fitDescription(v FitView, m fitModel, g twinGeom) string {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s fitted to your judgement of %s, between the bounds %s and %s. ",
+		m.Params, axisTitle(v.Quantity, v.Units), FormatValue(v.Lower), FormatValue(v.Upper))
+	fmt.Fprintf(&b, "Fitted percentiles: 5th %s, median %s, 95th %s. ",
+		m.Pcts[0], m.Pcts[1], m.Pcts[2])
+	if len(m.Rows) > 0 {
+		parts := make([]string, len(m.Rows))
+		for i, r := range m.Rows {
+			parts[i] = fmt.Sprintf("%s chance below %s (fitted curve: %s)", r.Chance, r.Stated, r.FittedChance)
+		}
+		fmt.Fprintf(&b, "Your stated points, marked as circles on the lower curve: %s. ", strings.Join(parts, "; "))
+	}
+	for _, n := range g.Notes {
+		b.WriteString(n + " ")
+	}
+	return strings.TrimSpace(b.String())
+}

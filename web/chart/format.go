@@ -1,0 +1,62 @@
+package chart
+
+import (
+	"math"
+	"strconv"
+	"strings"
+)
+
+// FormatValue writes v with four significant figures and no
+// floating-point noise: 0.012, 4.2, 17.93, 125000. Very small or very large
+// magnitudes use exponent notation (1.2e-07). Non-finite values read
+// "not available" so that no NaN reaches a page.
+func FormatValue(v float64) string {
+	return formatSig(v, 4)
+}
+
+func formatSig(v float64, sig int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "not available"
+	}
+	if v == 0 {
+		return "0"
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', sig, 64), 64)
+	if a := math.Abs(r); a >= 1e-4 && a < 1e7 {
+		return strconv.FormatFloat(r, 'f', -1, 64)
+	}
+	s := strconv.FormatFloat(r, 'e', -1, 64)
+	// 1.2e-07 → 1.2e-7: shorter for a reader.
+	if i := strings.Index(s, "e"); i >= 0 {
+		mant, exp := s[:i], s[i+1:]
+		sign := ""
+		if exp[0] == '-' || exp[0] == '+' {
+			if exp[0] == '-' {
+				sign = "-"
+			}
+			exp = exp[1:]
+		}
+		exp = strings.TrimLeft(exp, "0")
+		s = mant + "e" + sign + exp
+	}
+	return s
+}
+
+// FormatPercent writes a probability as a percentage without noise:
+// 0.05 → "5%", 0.025 → "2.5%", 0.3333 → "33.3%".
+func FormatPercent(p float64) string {
+	if math.IsNaN(p) || math.IsInf(p, 0) {
+		return "not available"
+	}
+	return formatSig(p*100, 3) + "%"
+}
+
+// coord writes an SVG coordinate with two decimals. Callers guard against
+// non-finite values first; this is the last line of defence and writes 0
+// rather than NaN.
+func coord(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "0"
+	}
+	return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
+}

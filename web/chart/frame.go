@@ -1,0 +1,112 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// frame is one plot area: a data window mapped onto a pixel rectangle.
+type frame struct {
+	Left, Top, Width, Height float64 // pixels
+	X0, X1                   float64 // data window, X0 < X1
+	Y0, Y1                   float64 // data window, Y0 < Y1
+}
+
+func (f frame) right() float64  { return f.Left + f.Width }
+func (f frame) bottom() float64 { return f.Top + f.Height }
+
+// px maps a data x to a pixel column.
+func (f frame) px(x float64) float64 { return f.Left + (x-f.X0)/(f.X1-f.X0)*f.Width }
+
+// py maps a data y to a pixel row; larger y is higher on the page.
+func (f frame) py(y float64) float64 { return f.bottom() - (y-f.Y0)/(f.Y1-f.Y0)*f.Height }
+
+// pyClip maps y to a row inside the plot area. Values above the window
+// (including +Inf, a density at a bound) sit on the top edge; ok is false
+// for NaN, which breaks the line.
+func (f frame) pyClip(y float64) (row float64, clipped, ok bool) {
+	switch {
+	case math.IsNaN(y):
+		return 0, false, false
+	case y > f.Y1:
+		return f.Top, true, true
+	case y < f.Y0:
+		return f.bottom(), true, true
+	}
+	return f.py(y), false, true
+}
+
+// grid returns n+1 evenly spaced points over the data window.
+func (f frame) grid(n int) []float64 {
+	xs := make([]float64, n+1)
+	for i := range xs {
+		xs[i] = f.X0 + (f.X1-f.X0)*float64(i)/float64(n)
+	}
+	xs[n] = f.X1
+	return xs
+}
+
+// linePath draws y(x) over the grid as an SVG path, clipped to the plot
+// area. It reports whether any part was cut at the top or bottom.
+func (f frame) linePath(xs []float64, y func(float64) float64) (d string, clipped bool) {
+	var b strings.Builder
+	pen := false
+	for _, x := range xs {
+		row, c, ok := f.pyClip(y(x))
+		if !ok {
+			pen = false
+			continue
+		}
+		clipped = clipped || c
+		if pen {
+			b.WriteString(" L")
+		} else {
+			if b.Len() > 0 {
+				b.WriteString(" ")
+			}
+			b.WriteString("M")
+		}
+		b.WriteString(coord(f.px(x)))
+		b.WriteString(",")
+		b.WriteString(coord(row))
+		pen = true
+	}
+	return b.String(), clipped
+}
+
+// areaPath closes linePath down to the baseline, for a shaded density.
+func (f frame) areaPath(xs []float64, y func(float64) float64) string {
+	var b strings.Builder
+	b.WriteString("M" + coord(f.px(xs[0])) + "," + coord(f.bottom()))
+	for _, x := range xs {
+		row, _, ok := f.pyClip(y(x))
+		if !ok {
+			row = f.bottom()
+		}
+		b.WriteString(" L" + coord(f.px(x)) + "," + coord(row))
+	}
+	b.WriteString(" L" + coord(f.px(xs[len(xs)-1])) + "," + coord(f.bottom()) + " Z")
+	return b.String()
+}
+
+// coordShift adds d pixels to a coordinate written by coord.
+func coordShift(c string, d float64) string {
+	var v float64
+	if _, err := fmt.Sscan(c, &v); err != nil {
+		return c
+	}
+	return coord(v + d)
+}
+
+// dashAttr is the stroke-dasharray value; "none" draws a solid line.
+func dashAttr(d string) string {
+	if d == "" {
+		return "none"
+	}
+	return d
+}
+
+func noteY(g twinGeom, i int) string {
+	return coordShift(g.NoteY, float64(i)*15)
+}

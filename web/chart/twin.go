@@ -1,0 +1,203 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// A twin is the layout every curve picture shares: a density plot above a
+// cumulative plot on one x axis. Fit and Panel both draw through it, so
+// there is one way curves become pixels.
+
+// Pixel layout of a twin, in SVG user units (the SVG scales to its box).
+const (
+	twinLeft      = 70.0
+	twinPlotW     = 540.0
+	twinTop       = 34.0
+	twinDensityH  = 140.0
+	twinGap       = 36.0
+	twinCDFH      = 170.0
+	twinBelow     = 60.0 // tick labels and axis title; each note adds a line
+	gridPoints    = 320
+	xTickTarget   = 6
+	densityTicksN = 4
+)
+
+// tickGeom is one tick at a pixel position.
+type tickGeom struct {
+	Pos   string // pixel x (x ticks) or y (y ticks)
+	Label string
+	Value string // the data value, for tests and assistive tools
+}
+
+// axesGeom is one plot area with its gridlines and y axis.
+type axesGeom struct {
+	X, Y, W, H     string
+	Right, Bottom  string
+	YTicks         []tickGeom
+	YTitle         string
+	YTitleRotation string // transform attribute for the rotated y title
+	YTitleX        string
+	YTitleY        string
+	Class          string
+}
+
+// lineGeom is one curve in both plots.
+type lineGeom struct {
+	Label    string
+	Role     string
+	Density  string // path d
+	Cumul    string // path d
+	Area     string // path d of the shaded density, Fit only
+	Stroke   string
+	Width    string
+	Dash     string
+	DashName string
+}
+
+type twinGeom struct {
+	ViewBox     string
+	Height      float64
+	Density     axesGeom
+	Cumul       axesGeom
+	XTicks      []tickGeom
+	XLabelY     string
+	XTitle      string
+	XTitleX     string
+	XTitleY     string
+	Lines       []lineGeom
+	Notes       []string // what the axes leave out, in words
+	NoteY       string
+	ClippedBy   []string // labels of curves cut at the density axis's top
+	DensityTop  float64
+	X0, X1      float64
+	dens, cumul frame
+}
+
+// axisTitle is "quantity (units)" or just the quantity.
+func axisTitle(quantity, units string) string {
+	q := strings.TrimSpace(quantity)
+	if q == "" {
+		q = "value"
+	}
+	if u := strings.TrimSpace(units); u != "" {
+		return q + " (" + u + ")"
+	}
+	return q
+}
+
+// newTwin lays out curves over [lower, upper]. Extra x values (stated
+// points) are kept inside the window. extraHeight adds rows below, for
+// a legend drawn by the caller.
+func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
+	x0, x1 := window(lower, upper, curves, extra)
+	g := twinGeom{X0: x0, X1: x1}
+	dens := frame{Left: twinLeft, Top: twinTop, Width: twinPlotW, Height: twinDensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	cumul := frame{Left: twinLeft, Top: twinTop + twinDensityH + twinGap, Width: twinPlotW, Height: twinCDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	xs := dens.grid(gridPoints)
+
+	// The density axis's top: the tallest curve's own top, so a narrow
+	// expert is not flattened by a wide one, except where a curve spikes
+	// towards a bound.
+	top := 0.0
+	tops := make([]float64, len(curves))
+	for i, c := range curves {
+		if !c.valid() {
+			continue
+		}
+		samples := make([]float64, len(xs))
+		for k, x := range xs {
+			samples[k] = c.pdf(x)
+		}
+		t, _ := densityCap(samples)
+		tops[i] = t
+		top = math.Max(top, t)
+	}
+	if !(top > 0) || !isFinite(top) {
+		top = 1
+	}
+	top *= 1.08
+	dens.Y1 = top
+	g.DensityTop = top
+
+	for i, c := range curves {
+		if !c.valid() {
+			continue
+		}
+		st := styleFor(c.Role, expertIndex(curves, i))
+		dd, clipped := dens.linePath(xs, c.pdf)
+		cd, _ := cumul.linePath(xs, c.cdf)
+		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: dd, Cumul: cd,
+			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
+		if area {
+			l.Area = dens.areaPath(xs, c.pdf)
+		}
+		g.Lines = append(g.Lines, l)
+		if clipped {
+			g.ClippedBy = append(g.ClippedBy, c.Label)
+		}
+	}
+
+	for _, t := range ticks(x0, x1, xTickTarget) {
+		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: t.Label, Value: t.Label})
+	}
+	g.Density = yAxes(dens, ticks(0, top, densityTicksN), "density", "chart-density")
+	var pt []tick
+	for _, p := range []float64{0, 0.25, 0.5, 0.75, 1} {
+		pt = append(pt, tick{Value: p, Label: FormatPercent(p)})
+	}
+	g.Cumul = yAxes(cumul, pt, "chance below", "chart-cdf")
+	g.XLabelY = coord(cumul.bottom() + 18)
+	g.XTitle = axisTitle(quantity, units)
+	g.XTitleX = coord(cumul.Left + cumul.Width/2)
+	g.XTitleY = coord(cumul.bottom() + 42)
+	g.NoteY = coord(cumul.bottom() + 64)
+	g.dens, g.cumul = dens, cumul
+
+	switch {
+	case x0 > lower && x1 < upper:
+		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis runs from %s to %s, inside the bounds %s and %s.",
+			FormatValue(x0), FormatValue(x1), FormatValue(lower), FormatValue(upper)))
+	case x0 > lower:
+		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis starts at %s, not at the lower bound %s.",
+			FormatValue(x0), FormatValue(lower)))
+	case x1 < upper:
+		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis stops at %s, short of the upper bound %s.",
+			FormatValue(x1), FormatValue(upper)))
+	}
+	if len(g.ClippedBy) > 0 {
+		g.Notes = append(g.Notes, fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.",
+			formatSig(top, 3), strings.Join(g.ClippedBy, ", ")))
+	}
+	g.Height = cumul.bottom() + twinBelow + 15*float64(len(g.Notes))
+	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
+	return g
+}
+
+// expertIndex counts the experts before curve i, so the k-th expert gets
+// the k-th style whatever other roles are interleaved.
+func expertIndex(curves []Curve, i int) int {
+	n := 0
+	for _, c := range curves[:i] {
+		if c.Role == curves[i].Role {
+			n++
+		}
+	}
+	return n
+}
+
+func yAxes(f frame, ts []tick, title, class string) axesGeom {
+	a := axesGeom{
+		X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height),
+		Right: coord(f.right()), Bottom: coord(f.bottom()),
+		YTitle: title, Class: class,
+	}
+	for _, t := range ts {
+		a.YTicks = append(a.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: t.Label, Value: t.Label})
+	}
+	tx, ty := f.Left-50, f.Top+f.Height/2
+	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
+	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
+	return a
+}
