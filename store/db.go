@@ -1,0 +1,173 @@
+// Package store keeps Parley's workshops in one SQLite file: the elicit
+// domain's types, persisted with their full history. SQL lives only here
+// and in package migrations.
+package store
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+	"net/url"
+	"time"
+
+	_ "github.com/mattn/go-sqlite3" // registers the "sqlite3" driver
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// DB is a Parley database. Writes go through one connection, each in an
+// IMMEDIATE transaction, so concurrent saves queue in Go instead of failing
+// with SQLITE_BUSY; reads use a small pool of their own, which WAL lets
+// run alongside the writer. A DB is safe for concurrent use.
+type DB struct {
+	path string
+	w    *sql.DB // the single writer
+	r    *sql.DB // readers
+}
+
+// dsn builds the connection string. synchronous=FULL makes SQLite sync the
+// WAL at every commit, so a save that was acknowledged survives a process
+// kill and a power cut; NORMAL would survive only the first. A workshop
+// saves a few revisions a second, so the extra fsync costs nothing that
+// matters.
+func dsn(path string, readOnly bool) string {
+	v := url.Values{}
+	v.Set("_journal_mode", "WAL")
+	v.Set("_foreign_keys", "on")
+	v.Set("_busy_timeout", "5000")
+	v.Set("_synchronous", "FULL")
+	if readOnly {
+		v.Set("mode", "ro")
+	} else {
+		v.Set("_txlock", "immediate")
+	}
+	return "file:" + url.PathEscape(path) + "?" + v.Encode()
+}
+
+// Open opens (creating if needed) the database at path and migrates it to
+// the latest schema version.
+func Open(path string) (*DB, error) {
+	db, err := open(path)
+	if err != nil {
+		return nil, err
+	}
+	if err := db.Migrate(context.Background()); err != nil {
+		db.Close()
+		return nil, err
+	}
+	return db, nil
+}
+
+// open opens the database without migrating it.
+func open(path string) (*DB, error) {
+	if path == "" {
+		return nil, errors.New("store: empty database path")
+	}
+	w, err := sql.Open("sqlite3", dsn(path, false))
+	if err != nil {
+		return nil, fmt.Errorf("store: open %s: %w", path, err)
+	}
+	w.SetMaxOpenConns(1)
+	w.SetConnMaxIdleTime(0)
+	// Ping creates the file and switches it to WAL before any reader opens
+	// it read-only.
+	if err := w.Ping(); err != nil {
+		w.Close()
+		return nil, fmt.Errorf("store: open %s: %w", path, err)
+	}
+	r, err := sql.Open("sqlite3", dsn(path, true))
+	if err != nil {
+		w.Close()
+		return nil, fmt.Errorf("store: open %s: %w", path, err)
+	}
+	r.SetMaxOpenConns(4)
+	return &DB{path: path, w: w, r: r}, nil
+}
+
+// Close closes both pools.
+func (db *DB) Close() error {
+	return errors.Join(db.r.Close(), db.w.Close())
+}
+
+// Path is the database file's path.
+func (db *DB) Path() string { return db.path }
+
+// write runs fn in one IMMEDIATE transaction on the writer, committing
+// when fn returns nil and rolling back otherwise.
+func (db *DB) write(ctx context.Context, fn func(tx *sql.Tx) error) error {
+	tx, err := db.w.BeginTx(ctx, nil)
+	if err != nil {
+		return fmt.Errorf("store: begin: %w", err)
+	}
+	if err := fn(tx); err != nil {
+		tx.Rollback()
+		return err
+	}
+	if err := tx.Commit(); err != nil {
+		return fmt.Errorf("store: commit: %w", err)
+	}
+	return nil
+}
+
+// IntegrityCheck runs PRAGMA integrity_check and returns its verdict,
+// "ok" for a sound file.
+func (db *DB) IntegrityCheck(ctx context.Context) (string, error) {
+	rows, err := db.r.QueryContext(ctx, "PRAGMA integrity_check")
+	if err != nil {
+		return "", fmt.Errorf("store: integrity check: %w", err)
+	}
+	defer rows.Close()
+	var out string
+	for rows.Next() {
+		var line string
+		if err := rows.Scan(&line); err != nil {
+			return "", fmt.Errorf("store: integrity check: %w", err)
+		}
+		if out != "" {
+			out += "\n"
+		}
+		out += line
+	}
+	return out, rows.Err()
+}
+
+// Backup writes a consistent copy of the database to dest with VACUUM
+// INTO, which reads one snapshot and so may run while the server writes.
+// dest must not exist.
+func (db *DB) Backup(ctx context.Context, dest string) error {
+	if dest == "" {
+		return errors.New("store: backup: empty destination path")
+	}
+	if _, err := db.r.ExecContext(ctx, "VACUUM INTO ?", dest); err != nil {
+		return fmt.Errorf("store: backup to %s: %w", dest, err)
+	}
+	return nil
+}
+
+// Times are stored as UTC RFC 3339 text with nanoseconds.
+func formatTime(t time.Time) string { return t.UTC().Format(time.RFC3339Nano) }
+
+func parseTime(s string) (time.Time, error) {
+	t, err := time.Parse(time.RFC3339Nano, s)
+	if err != nil {
+		return time.Time{}, fmt.Errorf("store: bad stored time %q: %w", s, err)
+	}
+	return t.UTC(), nil
+}
+
+// now is the clock for stamps the store sets; rounded to microseconds so a
+// stamp reads back exactly as it was handed out.
+func now() time.Time { return time.Now().UTC().Round(time.Microsecond) }
+
+func boolInt(b bool) int {
+	if b {
+		return 1
+	}
+	return 0
+}
+
+// notFound wraps elicit.ErrNotFound with what was looked for.
+func notFound(what string, id int64) error {
+	return fmt.Errorf("store: %s %d: %w", what, id, elicit.ErrNotFound)
+}

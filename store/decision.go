@@ -1,0 +1,237 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// SetWeights records the facilitator's pool weights for a workshop with
+// EventWeightsSet, in one transaction. Every weighted expert must be on the
+// workshop's panel; weights must be finite, not negative and, unless the
+// scheme is equal, not all zero. It sets w.At.
+func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
+	if err := checkWeights(*w); err != nil {
+		return err
+	}
+	byExpert, err := json.Marshal(w.ByExpert)
+	if err != nil {
+		return fmt.Errorf("store: set weights: %w", err)
+	}
+	if len(w.ByExpert) == 0 {
+		byExpert = []byte("{}")
+	}
+	at := now()
+	return db.write(ctx, func(tx *sql.Tx) error {
+		if err := workshopExists(ctx, tx, w.WorkshopID); err != nil {
+			return err
+		}
+		for _, id := range sortedExperts(w.ByExpert) {
+			var ws int64
+			err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM experts WHERE id = ?`, id).Scan(&ws)
+			if errors.Is(err, sql.ErrNoRows) || (err == nil && ws != w.WorkshopID) {
+				return fmt.Errorf("store: set weights: expert %d of workshop %d: %w", id, w.WorkshopID, elicit.ErrNotFound)
+			}
+			if err != nil {
+				return fmt.Errorf("store: set weights: %w", err)
+			}
+		}
+		if _, err := tx.ExecContext(ctx,
+			`INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`,
+			w.WorkshopID, string(w.Scheme), string(byExpert), w.Reason, formatTime(at)); err != nil {
+			return fmt.Errorf("store: set weights: %w", err)
+		}
+		detail := fmt.Sprintf(`{"scheme":%q,"by_expert":%s}`, w.Scheme, byExpert)
+		if err := insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: w.WorkshopID, Kind: elicit.EventWeightsSet, At: at, Reason: w.Reason, Detail: detail,
+		}); err != nil {
+			return err
+		}
+		w.At = at
+		return nil
+	})
+}
+
+func checkWeights(w elicit.Weights) error {
+	switch w.Scheme {
+	case elicit.WeightsEqual, elicit.WeightsCustom, elicit.WeightsPerformance:
+	default:
+		return &elicit.InputError{Field: "scheme", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", w.Scheme)}
+	}
+	total := 0.0
+	for _, id := range sortedExperts(w.ByExpert) {
+		v := w.ByExpert[id]
+		f := fmt.Sprintf("weights[%d]", id)
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &elicit.InputError{Field: f, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", v)}
+		}
+		if v < 0 {
+			return &elicit.InputError{Field: f, Rule: elicit.RuleNonNegative, Detail: fmt.Sprintf("got %v", v)}
+		}
+		total += v
+	}
+	if w.Scheme != elicit.WeightsEqual && total == 0 {
+		return &elicit.InputError{Field: "weights", Rule: elicit.RuleWeightsNotAllZero}
+	}
+	return nil
+}
+
+func sortedExperts(m map[int64]float64) []int64 {
+	ids := make([]int64, 0, len(m))
+	for id := range m {
+		ids = append(ids, id)
+	}
+	sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
+	return ids
+}
+
+// Weights returns a workshop's current pool weights: the latest set, or
+// equal weights (At zero) when none was ever set.
+func (db *DB) Weights(ctx context.Context, workshopID int64) (elicit.Weights, error) {
+	w := elicit.Weights{WorkshopID: workshopID, Scheme: elicit.WeightsEqual}
+	var scheme, byExpert, at string
+	err := db.r.QueryRowContext(ctx,
+		`SELECT scheme, by_expert, reason, at FROM weight_sets WHERE workshop_id = ? ORDER BY id DESC LIMIT 1`,
+		workshopID).Scan(&scheme, &byExpert, &w.Reason, &at)
+	if errors.Is(err, sql.ErrNoRows) {
+		if _, err := db.Workshop(ctx, workshopID); err != nil {
+			return elicit.Weights{}, err
+		}
+		return w, nil
+	}
+	if err != nil {
+		return elicit.Weights{}, fmt.Errorf("store: weights: %w", err)
+	}
+	w.Scheme = elicit.WeightScheme(scheme)
+	if err := json.Unmarshal([]byte(byExpert), &w.ByExpert); err != nil {
+		return elicit.Weights{}, fmt.Errorf("store: bad stored weights %q: %w", byExpert, err)
+	}
+	if len(w.ByExpert) == 0 {
+		w.ByExpert = nil
+	}
+	w.At, err = parseTime(at)
+	return w, err
+}
+
+// AgreePrior records the prior the panel agreed for a question, in the
+// workshop's current round, with EventPriorAgreed, in one transaction. It
+// sets p's ID, Round and At.
+func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
+	if err := p.Dist.Validate(); err != nil {
+		return err
+	}
+	switch p.Source {
+	case elicit.PriorFromPool, elicit.PriorFromConsensus:
+	default:
+		return &elicit.InputError{Field: "source", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", p.Source)}
+	}
+	consensus, err := marshalConsensus(p.Consensus)
+	if err != nil {
+		return err
+	}
+	at := now()
+	return db.write(ctx, func(tx *sql.Tx) error {
+		var (
+			workshopID int64
+			round      int
+		)
+		err := tx.QueryRowContext(ctx,
+			`SELECT w.id, w.round FROM questions q JOIN workshops w ON w.id = q.workshop_id WHERE q.id = ?`,
+			p.QuestionID).Scan(&workshopID, &round)
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", p.QuestionID)
+		}
+		if err != nil {
+			return fmt.Errorf("store: agree prior: %w", err)
+		}
+		stored := *p
+		stored.Round, stored.At = round, at
+		id, err := insertPrior(ctx, tx, stored, consensus)
+		if err != nil {
+			return err
+		}
+		detail, _ := json.Marshal(struct {
+			Source elicit.PriorSource `json:"source"`
+			Dist   elicit.ScaledBeta  `json:"dist"`
+		}{p.Source, p.Dist})
+		if err := insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: elicit.EventPriorAgreed,
+			At: at, Reason: p.Rationale, Detail: string(detail),
+		}); err != nil {
+			return err
+		}
+		p.ID, p.Round, p.At = id, round, at
+		return nil
+	})
+}
+
+func marshalConsensus(a *elicit.Answer) (any, error) {
+	if a == nil {
+		return nil, nil
+	}
+	b, err := json.Marshal(a)
+	if err != nil {
+		return nil, fmt.Errorf("store: consensus judgement: %w", err)
+	}
+	return string(b), nil
+}
+
+func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensus any) (int64, error) {
+	res, err := tx.ExecContext(ctx,
+		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, at)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
+		consensus, p.Rationale, p.Round, formatTime(p.At))
+	if err != nil {
+		return 0, fmt.Errorf("store: agree prior: %w", err)
+	}
+	id, err := res.LastInsertId()
+	if err != nil {
+		return 0, fmt.Errorf("store: agree prior: %w", err)
+	}
+	return id, nil
+}
+
+// AgreedPriors returns every prior agreed on a workshop's questions,
+// oldest first; per question the latest is the current one.
+func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.AgreedPrior, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
+		        p.rationale, p.round, p.at
+		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id
+		 WHERE q.workshop_id = ? ORDER BY p.id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: agreed priors: %w", err)
+	}
+	defer rows.Close()
+	var ps []elicit.AgreedPrior
+	for rows.Next() {
+		var (
+			p          elicit.AgreedPrior
+			source, at string
+			consensus  sql.NullString
+		)
+		if err := rows.Scan(&p.ID, &p.QuestionID, &source, &p.Dist.Alpha, &p.Dist.Beta.Beta,
+			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &at); err != nil {
+			return nil, fmt.Errorf("store: read agreed prior: %w", err)
+		}
+		p.Source = elicit.PriorSource(source)
+		if consensus.Valid {
+			p.Consensus = new(elicit.Answer)
+			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {
+				return nil, fmt.Errorf("store: bad stored consensus %q: %w", consensus.String, err)
+			}
+		}
+		if p.At, err = parseTime(at); err != nil {
+			return nil, err
+		}
+		ps = append(ps, p)
+	}
+	return ps, rows.Err()
+}

@@ -1,0 +1,53 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// insertEvent writes one event inside the transaction of the decision it
+// records.
+func insertEvent(ctx context.Context, tx *sql.Tx, e elicit.Event) error {
+	var question any
+	if e.QuestionID != 0 {
+		question = e.QuestionID
+	}
+	_, err := tx.ExecContext(ctx,
+		`INSERT INTO events (workshop_id, question_id, kind, at, reason, detail) VALUES (?, ?, ?, ?, ?, ?)`,
+		e.WorkshopID, question, string(e.Kind), formatTime(e.At), e.Reason, e.Detail)
+	if err != nil {
+		return fmt.Errorf("store: record %s: %w", e.Kind, err)
+	}
+	return nil
+}
+
+// Events returns a workshop's events, oldest first.
+func (db *DB) Events(ctx context.Context, workshopID int64) ([]elicit.Event, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT id, workshop_id, question_id, kind, at, reason, detail FROM events
+		 WHERE workshop_id = ? ORDER BY id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: events: %w", err)
+	}
+	defer rows.Close()
+	var es []elicit.Event
+	for rows.Next() {
+		var (
+			e        elicit.Event
+			question sql.NullInt64
+			kind, at string
+		)
+		if err := rows.Scan(&e.ID, &e.WorkshopID, &question, &kind, &at, &e.Reason, &e.Detail); err != nil {
+			return nil, fmt.Errorf("store: read event: %w", err)
+		}
+		e.QuestionID, e.Kind = question.Int64, elicit.EventKind(kind)
+		if e.At, err = parseTime(at); err != nil {
+			return nil, err
+		}
+		es = append(es, e)
+	}
+	return es, rows.Err()
+}

@@ -1,0 +1,143 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+const expertColumns = `id, workshop_id, name, affiliation, expertise, revoked, created`
+
+// AddExpert adds e to its workshop's panel with the hash of their access
+// token, recording EventExpertAdded. It sets e's ID and Created.
+func (db *DB) AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte) error {
+	if len(tokenHash) == 0 {
+		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
+	}
+	created := now()
+	return db.write(ctx, func(tx *sql.Tx) error {
+		if err := workshopExists(ctx, tx, e.WorkshopID); err != nil {
+			return err
+		}
+		res, err := tx.ExecContext(ctx,
+			`INSERT INTO experts (workshop_id, name, affiliation, expertise, token_hash, revoked, created)
+			 VALUES (?, ?, ?, ?, ?, 0, ?)`,
+			e.WorkshopID, e.Name, e.Affiliation, e.Expertise, tokenHash, formatTime(created))
+		if err != nil {
+			return fmt.Errorf("store: add expert: %w", err)
+		}
+		id, err := res.LastInsertId()
+		if err != nil {
+			return fmt.Errorf("store: add expert: %w", err)
+		}
+		if err := insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: e.WorkshopID, Kind: elicit.EventExpertAdded, At: created,
+			Detail: fmt.Sprintf(`{"expert_id":%d}`, id),
+		}); err != nil {
+			return err
+		}
+		e.ID, e.Created, e.Revoked = id, created, false
+		return nil
+	})
+}
+
+// Expert returns the expert with the given ID, revoked or not.
+func (db *DB) Expert(ctx context.Context, id int64) (elicit.Expert, error) {
+	e, err := scanExpert(db.r.QueryRowContext(ctx, `SELECT `+expertColumns+` FROM experts WHERE id = ?`, id))
+	if errors.Is(err, sql.ErrNoRows) {
+		return e, notFound("expert", id)
+	}
+	return e, err
+}
+
+// Experts returns a workshop's panel in the order they were added.
+func (db *DB) Experts(ctx context.Context, workshopID int64) ([]elicit.Expert, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT `+expertColumns+` FROM experts WHERE workshop_id = ? ORDER BY id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: experts: %w", err)
+	}
+	defer rows.Close()
+	var es []elicit.Expert
+	for rows.Next() {
+		e, err := scanExpert(rows)
+		if err != nil {
+			return nil, err
+		}
+		es = append(es, e)
+	}
+	return es, rows.Err()
+}
+
+// ExpertByToken returns the unrevoked expert whose token hashes to
+// tokenHash.
+func (db *DB) ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Expert, error) {
+	if len(tokenHash) == 0 {
+		return elicit.Expert{}, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
+	}
+	e, err := scanExpert(db.r.QueryRowContext(ctx,
+		`SELECT `+expertColumns+` FROM experts WHERE token_hash = ? AND revoked = 0`, tokenHash))
+	if errors.Is(err, sql.ErrNoRows) {
+		return e, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
+	}
+	return e, err
+}
+
+// ReissueToken gives an expert a new access token, which also lifts a
+// revocation, and records EventTokenReissued. The old token stops working.
+func (db *DB) ReissueToken(ctx context.Context, expertID int64, tokenHash []byte, reason string) error {
+	if len(tokenHash) == 0 {
+		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
+	}
+	return db.expertDecision(ctx, expertID, elicit.EventTokenReissued, reason,
+		`UPDATE experts SET token_hash = ?, revoked = 0 WHERE id = ?`, tokenHash, expertID)
+}
+
+// RevokeExpert stops an expert's access token from working and records
+// EventExpertRevoked. Their revisions stay in the record.
+func (db *DB) RevokeExpert(ctx context.Context, expertID int64, reason string) error {
+	return db.expertDecision(ctx, expertID, elicit.EventExpertRevoked, reason,
+		`UPDATE experts SET revoked = 1 WHERE id = ?`, expertID)
+}
+
+// expertDecision runs one UPDATE of an expert together with its event.
+func (db *DB) expertDecision(ctx context.Context, expertID int64, kind elicit.EventKind, reason, update string, args ...any) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		var workshopID int64
+		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM experts WHERE id = ?`, expertID).Scan(&workshopID)
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("expert", expertID)
+		}
+		if err != nil {
+			return fmt.Errorf("store: expert %d: %w", expertID, err)
+		}
+		if _, err := tx.ExecContext(ctx, update, args...); err != nil {
+			return fmt.Errorf("store: expert %d: %s: %w", expertID, kind, err)
+		}
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
+			Detail: fmt.Sprintf(`{"expert_id":%d}`, expertID),
+		})
+	})
+}
+
+func scanExpert(s scanner) (elicit.Expert, error) {
+	var (
+		e       elicit.Expert
+		revoked int
+		created string
+	)
+	err := s.Scan(&e.ID, &e.WorkshopID, &e.Name, &e.Affiliation, &e.Expertise, &revoked, &created)
+	if errors.Is(err, sql.ErrNoRows) {
+		return e, err
+	}
+	if err != nil {
+		return e, fmt.Errorf("store: read expert: %w", err)
+	}
+	e.Revoked = revoked == 1
+	e.Created, err = parseTime(created)
+	return e, err
+}

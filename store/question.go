@@ -1,0 +1,173 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"math"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
+	probs, bin_edges, chips, calibration, true_value, revealed`
+
+// AddQuestion appends q to its workshop's questions, recording
+// EventQuestionAdded. It sets q's ID and Position.
+func (db *DB) AddQuestion(ctx context.Context, q *elicit.Question) error {
+	probs, err := marshalList(q.Probs)
+	if err != nil {
+		return err
+	}
+	edges, err := marshalList(q.BinEdges)
+	if err != nil {
+		return err
+	}
+	return db.write(ctx, func(tx *sql.Tx) error {
+		if err := workshopExists(ctx, tx, q.WorkshopID); err != nil {
+			return err
+		}
+		var pos int
+		if err := tx.QueryRowContext(ctx,
+			`SELECT COALESCE(MAX(position), 0) + 1 FROM questions WHERE workshop_id = ?`,
+			q.WorkshopID).Scan(&pos); err != nil {
+			return fmt.Errorf("store: add question: %w", err)
+		}
+		res, err := tx.ExecContext(ctx,
+			`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
+			 probs, bin_edges, chips, calibration, true_value, revealed)
+			 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+			q.WorkshopID, pos, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
+			probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed))
+		if err != nil {
+			return fmt.Errorf("store: add question: %w", err)
+		}
+		id, err := res.LastInsertId()
+		if err != nil {
+			return fmt.Errorf("store: add question: %w", err)
+		}
+		if err := insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: q.WorkshopID, QuestionID: id, Kind: elicit.EventQuestionAdded, At: now(),
+		}); err != nil {
+			return err
+		}
+		q.ID, q.Position = id, pos
+		return nil
+	})
+}
+
+// Question returns the question with the given ID.
+func (db *DB) Question(ctx context.Context, id int64) (elicit.Question, error) {
+	q, err := scanQuestion(db.r.QueryRowContext(ctx,
+		`SELECT `+questionColumns+` FROM questions WHERE id = ?`, id))
+	if errors.Is(err, sql.ErrNoRows) {
+		return q, notFound("question", id)
+	}
+	return q, err
+}
+
+// Questions returns a workshop's questions in position order.
+func (db *DB) Questions(ctx context.Context, workshopID int64) ([]elicit.Question, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT `+questionColumns+` FROM questions WHERE workshop_id = ? ORDER BY position, id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: questions: %w", err)
+	}
+	defer rows.Close()
+	var qs []elicit.Question
+	for rows.Next() {
+		q, err := scanQuestion(rows)
+		if err != nil {
+			return nil, err
+		}
+		qs = append(qs, q)
+	}
+	return qs, rows.Err()
+}
+
+// SetTrueValue stores a calibration question's true value; with reveal it
+// also makes the value visible to experts and records EventTruthRevealed.
+// A revealed value stays revealed.
+func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
+	if math.IsNaN(value) || math.IsInf(value, 0) {
+		return &elicit.InputError{Field: "true_value", Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", value)}
+	}
+	return db.write(ctx, func(tx *sql.Tx) error {
+		q, err := scanQuestion(tx.QueryRowContext(ctx,
+			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", questionID)
+		}
+		if err != nil {
+			return err
+		}
+		if !q.Calibration {
+			return &elicit.InputError{Field: "true_value", Rule: elicit.RuleUnknown,
+				Detail: fmt.Sprintf("question %d is not a calibration question", questionID)}
+		}
+		if value < q.Lower || value > q.Upper {
+			return &elicit.InputError{Field: "true_value", Rule: elicit.RuleValueInBounds,
+				Detail: fmt.Sprintf("%v not inside [%v, %v]", value, q.Lower, q.Upper)}
+		}
+		revealed := q.Revealed || reveal
+		if _, err := tx.ExecContext(ctx, `UPDATE questions SET true_value = ?, revealed = ? WHERE id = ?`,
+			value, boolInt(revealed), questionID); err != nil {
+			return fmt.Errorf("store: set true value: %w", err)
+		}
+		if !reveal {
+			return nil
+		}
+		detail, _ := json.Marshal(map[string]float64{"true_value": value})
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: elicit.EventTruthRevealed,
+			At: now(), Reason: reason, Detail: string(detail),
+		})
+	})
+}
+
+func scanQuestion(s scanner) (elicit.Question, error) {
+	var (
+		q                    elicit.Question
+		format, probs, edges string
+		calib, revealed      int
+		truth                sql.NullFloat64
+	)
+	err := s.Scan(&q.ID, &q.WorkshopID, &q.Position, &q.Wording, &q.Quantity, &q.Units, &q.Lower, &q.Upper,
+		&format, &probs, &edges, &q.Chips, &calib, &truth, &revealed)
+	if errors.Is(err, sql.ErrNoRows) {
+		return q, err
+	}
+	if err != nil {
+		return q, fmt.Errorf("store: read question: %w", err)
+	}
+	q.Format = elicit.AnswerFormat(format)
+	q.Calibration, q.Revealed = calib == 1, revealed == 1
+	if truth.Valid {
+		v := truth.Float64
+		q.TrueValue = &v
+	}
+	if err := unmarshalList(probs, &q.Probs); err != nil {
+		return q, err
+	}
+	return q, unmarshalList(edges, &q.BinEdges)
+}
+
+func workshopExists(ctx context.Context, tx *sql.Tx, id int64) error {
+	var n int
+	if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM workshops WHERE id = ?`, id).Scan(&n); err != nil {
+		return fmt.Errorf("store: workshop %d: %w", id, err)
+	}
+	if n == 0 {
+		return notFound("workshop", id)
+	}
+	return nil
+}
+
+func nullFloat(p *float64) any {
+	if p == nil {
+		return nil
+	}
+	return *p
+}

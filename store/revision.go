@@ -1,0 +1,131 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// SaveRevision appends an expert's answer to a question. In the same
+// transaction it checks that the question's workshop has an open round
+// (else an error wrapping elicit.ErrRoundClosed) and that the expert
+// exists, is not revoked and sits on that workshop's panel. It sets r's ID,
+// Round and At. The answer's content is elicit's to check, before saving.
+func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
+	values, err := marshalList(r.Answer.Values)
+	if err != nil {
+		return err
+	}
+	counts, err := marshalList(r.Answer.Counts)
+	if err != nil {
+		return err
+	}
+	at := now()
+	return db.write(ctx, func(tx *sql.Tx) error {
+		var (
+			workshopID int64
+			round      int
+			open       int
+		)
+		err := tx.QueryRowContext(ctx,
+			`SELECT w.id, w.round, w.round_open FROM questions q JOIN workshops w ON w.id = q.workshop_id
+			 WHERE q.id = ?`, r.QuestionID).Scan(&workshopID, &round, &open)
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", r.QuestionID)
+		}
+		if err != nil {
+			return fmt.Errorf("store: save revision: %w", err)
+		}
+		var (
+			expertWorkshop int64
+			revoked        int
+		)
+		err = tx.QueryRowContext(ctx, `SELECT workshop_id, revoked FROM experts WHERE id = ?`,
+			r.ExpertID).Scan(&expertWorkshop, &revoked)
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("expert", r.ExpertID)
+		}
+		if err != nil {
+			return fmt.Errorf("store: save revision: %w", err)
+		}
+		if expertWorkshop != workshopID {
+			return fmt.Errorf("store: expert %d is not on the panel of workshop %d: %w",
+				r.ExpertID, workshopID, elicit.ErrNotFound)
+		}
+		if revoked == 1 {
+			return fmt.Errorf("store: expert %d: %w", r.ExpertID, ErrRevoked)
+		}
+		if open == 0 {
+			return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, elicit.ErrRoundClosed)
+		}
+		id, err := insertRevision(ctx, tx, elicit.Revision{
+			QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
+			Reason: r.Reason, Answer: r.Answer,
+		}, values, counts)
+		if err != nil {
+			return err
+		}
+		r.ID, r.Round, r.At = id, round, at
+		return nil
+	})
+}
+
+// ErrRevoked is returned (wrapped) when a revoked expert tries to save.
+var ErrRevoked = errors.New("the expert's access has been revoked")
+
+func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, counts string) (int64, error) {
+	a := r.Answer
+	res, err := tx.ExecContext(ctx,
+		`INSERT INTO revisions (question_id, expert_id, round, at, reason,
+		 answer_values, lowest, highest, best, confidence, counts)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		r.QuestionID, r.ExpertID, r.Round, formatTime(r.At), r.Reason,
+		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts)
+	if err != nil {
+		return 0, fmt.Errorf("store: save revision: %w", err)
+	}
+	id, err := res.LastInsertId()
+	if err != nil {
+		return 0, fmt.Errorf("store: save revision: %w", err)
+	}
+	return id, nil
+}
+
+// Revisions returns every revision on a workshop's questions, oldest
+// first.
+func (db *DB) Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
+		        r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts
+		 FROM revisions r JOIN questions q ON q.id = r.question_id
+		 WHERE q.workshop_id = ? ORDER BY r.id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: revisions: %w", err)
+	}
+	defer rows.Close()
+	var rs []elicit.Revision
+	for rows.Next() {
+		var (
+			r              elicit.Revision
+			at, vs, counts string
+		)
+		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
+			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts); err != nil {
+			return nil, fmt.Errorf("store: read revision: %w", err)
+		}
+		if r.At, err = parseTime(at); err != nil {
+			return nil, err
+		}
+		if err := unmarshalList(vs, &r.Answer.Values); err != nil {
+			return nil, err
+		}
+		if err := unmarshalList(counts, &r.Answer.Counts); err != nil {
+			return nil, err
+		}
+		rs = append(rs, r)
+	}
+	return rs, rows.Err()
+}

@@ -1,0 +1,132 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+const workshopColumns = `id, title, purpose, decision, notes, round, round_open, invented, created`
+
+// CreateWorkshop saves a new workshop in round 1, open, and records
+// EventWorkshopCreated. It sets w's ID, Created, Round and Open.
+func (db *DB) CreateWorkshop(ctx context.Context, w *elicit.Workshop) error {
+	created := now()
+	return db.write(ctx, func(tx *sql.Tx) error {
+		res, err := tx.ExecContext(ctx,
+			`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, created)
+			 VALUES (?, ?, ?, ?, 1, 1, ?, ?)`,
+			w.Title, w.Purpose, w.Decision, w.Notes, boolInt(w.Invented), formatTime(created))
+		if err != nil {
+			return fmt.Errorf("store: create workshop: %w", err)
+		}
+		id, err := res.LastInsertId()
+		if err != nil {
+			return fmt.Errorf("store: create workshop: %w", err)
+		}
+		if err := insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: id, Kind: elicit.EventWorkshopCreated, At: created,
+		}); err != nil {
+			return err
+		}
+		w.ID, w.Created, w.Round, w.Open = id, created, 1, true
+		return nil
+	})
+}
+
+// UpdateWorkshop changes a workshop's title, purpose, decision and notes.
+func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		res, err := tx.ExecContext(ctx,
+			`UPDATE workshops SET title = ?, purpose = ?, decision = ?, notes = ? WHERE id = ?`,
+			w.Title, w.Purpose, w.Decision, w.Notes, w.ID)
+		if err != nil {
+			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
+		}
+		if n, _ := res.RowsAffected(); n == 0 {
+			return notFound("workshop", w.ID)
+		}
+		return nil
+	})
+}
+
+// Workshop returns the workshop with the given ID.
+func (db *DB) Workshop(ctx context.Context, id int64) (elicit.Workshop, error) {
+	row := db.r.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, id)
+	w, err := scanWorkshop(row)
+	if errors.Is(err, sql.ErrNoRows) {
+		return elicit.Workshop{}, notFound("workshop", id)
+	}
+	return w, err
+}
+
+// Workshops returns every workshop, oldest first.
+func (db *DB) Workshops(ctx context.Context) ([]elicit.Workshop, error) {
+	rows, err := db.r.QueryContext(ctx, `SELECT `+workshopColumns+` FROM workshops ORDER BY id`)
+	if err != nil {
+		return nil, fmt.Errorf("store: workshops: %w", err)
+	}
+	defer rows.Close()
+	var ws []elicit.Workshop
+	for rows.Next() {
+		w, err := scanWorkshop(rows)
+		if err != nil {
+			return nil, err
+		}
+		ws = append(ws, w)
+	}
+	return ws, rows.Err()
+}
+
+// SetRound closes the current round (open false) or opens round n (open
+// true, n the current round plus one), with its event, in one transaction.
+func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bool, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		w, err := scanWorkshop(tx.QueryRowContext(ctx,
+			`SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, workshopID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("workshop", workshopID)
+		}
+		if err != nil {
+			return err
+		}
+		if err := w.CheckRoundChange(round, open); err != nil {
+			return err
+		}
+		kind := elicit.EventRoundClosed
+		if open {
+			kind = elicit.EventRoundOpened
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round = ?, round_open = ? WHERE id = ?`,
+			round, boolInt(open), workshopID); err != nil {
+			return fmt.Errorf("store: set round: %w", err)
+		}
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
+			Detail: fmt.Sprintf(`{"round":%d}`, round),
+		})
+	})
+}
+
+type scanner interface{ Scan(dest ...any) error }
+
+func scanWorkshop(s scanner) (elicit.Workshop, error) {
+	var (
+		w            elicit.Workshop
+		open, invent int
+		created      string
+	)
+	if err := s.Scan(&w.ID, &w.Title, &w.Purpose, &w.Decision, &w.Notes, &w.Round, &open, &invent, &created); err != nil {
+		if errors.Is(err, sql.ErrNoRows) {
+			return w, err
+		}
+		return w, fmt.Errorf("store: read workshop: %w", err)
+	}
+	w.Open, w.Invented = open == 1, invent == 1
+	t, err := parseTime(created)
+	w.Created = t
+	return w, err
+}
