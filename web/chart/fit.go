@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"errors"
 	"fmt"
 	"strings"
 
@@ -72,7 +73,12 @@ func newFitModel(v FitView) fitModel {
 		m.ID = "fit"
 	}
 	if err := v.Dist.Validate(); err != nil {
-		m.Invalid = "No picture: the fitted distribution is not valid (" + err.Error() + ")."
+		m.Invalid = "No picture: the fitted distribution is not valid."
+		var ie *elicit.InputError
+		if errors.As(err, &ie) {
+			// The rule without the offending value, which may be NaN.
+			m.Invalid = "No picture: the fitted distribution is not valid (" + ie.Field + " " + string(ie.Rule) + ")."
+		}
 		return m
 	}
 	var xs []float64

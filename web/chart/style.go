@@ -44,14 +44,15 @@ type lineStyle struct {
 //	#CC79A7 reddish purple, #56B4E9 sky blue, #D55E00 vermillion.
 var expertHues = []string{"#0072B2", "#E69F00", "#009E73", "#CC79A7", "#56B4E9", "#D55E00"}
 
-// expertDashes cycle with a period (4) coprime to the hues' (6), so
-// the first 12 experts each get a distinct hue-and-pattern pair and
+// expertDashes cycle with a period (5) coprime to the hues' (6), so
+// the first 30 experts each get a distinct hue-and-pattern pair and
 // consecutive experts always differ in both.
 var expertDashes = []struct{ Dash, Name string }{
 	{"", "solid"},
 	{"7 4", "dashed"},
 	{"1.5 3", "dotted"},
 	{"9 3 2 3", "dash-dot"},
+	{"15 5", "long-dashed"},
 }
 
 // styleFor returns the style of the i-th curve of the given role. The

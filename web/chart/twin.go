@@ -97,21 +97,23 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 	cumul := frame{Left: twinLeft, Top: twinTop + twinDensityH + twinGap, Width: twinPlotW, Height: twinCDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	xs := dens.grid(gridPoints)
 
-	// The density axis's top: the tallest curve's own top, so a narrow
-	// expert is not flattened by a wide one, except where a curve spikes
-	// towards a bound.
+	// The density axis's top: the tallest curve's own top, each sampled
+	// over its own window, so a narrow expert is neither flattened by a
+	// wide one nor mistaken for a spike; only a density that rises towards
+	// a bound is cut.
 	top := 0.0
-	tops := make([]float64, len(curves))
-	for i, c := range curves {
+	for _, c := range curves {
 		if !c.valid() {
 			continue
 		}
-		samples := make([]float64, len(xs))
-		for k, x := range xs {
+		cx0, cx1 := window(lower, upper, []Curve{c}, nil)
+		own := frame{X0: cx0, X1: cx1}
+		cxs := own.grid(gridPoints)
+		samples := make([]float64, len(cxs))
+		for k, x := range cxs {
 			samples[k] = c.pdf(x)
 		}
 		t, _ := densityCap(samples)
-		tops[i] = t
 		top = math.Max(top, t)
 	}
 	if !(top > 0) || !isFinite(top) {

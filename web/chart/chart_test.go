@@ -1,0 +1,406 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func sbeta(a, b, lo, hi float64) elicit.ScaledBeta {
+	return elicit.ScaledBeta{Beta: elicit.Beta{Alpha: a, Beta: b}, Lower: lo, Upper: hi}
+}
+
+func fitViewOf(d elicit.ScaledBeta, pts ...Point) FitView {
+	return FitView{
+		ID: "t", Quantity: "Failure rate", Units: "per demand", Lower: d.Lower, Upper: d.Upper, Dist: d,
+		Points:      pts,
+		Percentiles: [3]float64{d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)},
+	}
+}
+
+func TestNiceStep(t *testing.T) {
+	// Expected steps worked by hand from Heckbert's rule (Graphics Gems,
+	// 1990): the raw step span/n rounded to 1, 2 or 5 times a power of ten.
+	cases := []struct {
+		span float64
+		n    int
+		want float64
+	}{
+		{1, 5, 0.2},
+		{1, 6, 0.2},
+		{0.0066, 6, 0.001},
+		{537, 6, 100},
+		{0.5282, 6, 0.1},
+		{40, 4, 10},
+		{3e-5, 3, 1e-5},
+	}
+	for _, c := range cases {
+		if got := niceStep(c.span, c.n); math.Abs(got-c.want) > 1e-12*c.want {
+			t.Errorf("niceStep(%v, %d) = %v, want %v", c.span, c.n, got, c.want)
+		}
+	}
+}
+
+func TestTicksAreNiceAndInRange(t *testing.T) {
+	ranges := [][2]float64{{0, 1}, {0, 0.5282}, {0.03559, 0.04143}, {10, 500}, {0, 16.5}, {1e-6, 3e-5}, {-2, 3}}
+	for _, r := range ranges {
+		ts := ticks(r[0], r[1], 6)
+		if len(ts) < 2 {
+			t.Errorf("ticks(%v, %v): only %d ticks", r[0], r[1], len(ts))
+			continue
+		}
+		step := ts[1].Value - ts[0].Value
+		mant := step / math.Pow(10, math.Floor(math.Log10(step)+1e-9))
+		if !(near(mant, 1) || near(mant, 2) || near(mant, 5)) {
+			t.Errorf("ticks(%v, %v): step %v is not 1, 2 or 5 × 10^k", r[0], r[1], step)
+		}
+		for i, tk := range ts {
+			if tk.Value < r[0]-1e-12 || tk.Value > r[1]+1e-12 {
+				t.Errorf("ticks(%v, %v): tick %v outside the range", r[0], r[1], tk.Value)
+			}
+			if i > 0 && !near((tk.Value-ts[i-1].Value)/step, 1) {
+				t.Errorf("ticks(%v, %v): uneven step at %v", r[0], r[1], tk.Value)
+			}
+			if v, err := strconv.ParseFloat(tk.Label, 64); err != nil || !near(v+1, tk.Value+1) {
+				t.Errorf("ticks(%v, %v): label %q does not read as %v", r[0], r[1], tk.Label, tk.Value)
+			}
+			if strings.Contains(tk.Label, "0000000") || strings.Contains(tk.Label, "9999999") || strings.HasPrefix(tk.Label, "-0") && tk.Value == 0 {
+				t.Errorf("ticks(%v, %v): label %q has float noise", r[0], r[1], tk.Label)
+			}
+		}
+	}
+}
+
+func near(a, b float64) bool { return math.Abs(a-b) < 1e-9*math.Max(1, math.Abs(b)) }
+
+func TestFormatValue(t *testing.T) {
+	cases := []struct {
+		in   float64
+		want string
+	}{
+		{0.012, "0.012"},
+		{0.1 + 0.2, "0.3"},
+		{4.24999, "4.25"},
+		{125000, "125000"},
+		{1.23456e-7, "1.235e-7"},
+		{0, "0"},
+		{-0.05, "-0.05"},
+		{math.NaN(), "not available"},
+		{math.Inf(1), "not available"},
+	}
+	for _, c := range cases {
+		if got := FormatValue(c.in); got != c.want {
+			t.Errorf("FormatValue(%v) = %q, want %q", c.in, got, c.want)
+		}
+	}
+	if got := FormatPercent(0.025); got != "2.5%" {
+		t.Errorf("FormatPercent(0.025) = %q, want 2.5%%", got)
+	}
+}
+
+// TestFitPointsAtTheirPixels checks the stated points sit where the axes'
+// own tick labels say they should.
+func TestFitPointsAtTheirPixels(t *testing.T) {
+	d := sbeta(4.2, 17.9, 0, 1)
+	pts := []Point{{0.06, 0.05}, {0.18, 0.5}, {0.36, 0.95}}
+	ns := parse(t, render(t, Fit(fitViewOf(d, pts...))))
+	var xgrid, pgrid []node
+	for _, n := range find(ns, "line", "grid-x") {
+		if !n.hasClass("grid") {
+			continue
+		}
+		xgrid = append(xgrid, n)
+	}
+	for _, n := range find(ns, "line", "grid-y") {
+		if strings.HasSuffix(n.Attr["data-value"], "%") {
+			pgrid = append(pgrid, n)
+		}
+	}
+	// Each x tick is drawn in both plots; the first half are the density's.
+	px := axisMap(t, xgrid[:len(xgrid)/2], "x1", parseNumber)
+	py := axisMap(t, pgrid, "y1", parsePercent)
+	circles := find(ns, "circle", "stated")
+	if len(circles) != len(pts) {
+		t.Fatalf("%d stated points drawn, want %d", len(circles), len(pts))
+	}
+	for i, c := range circles {
+		if got, want := c.num(t, "cx"), px(pts[i].X); math.Abs(got-want) > 0.02 {
+			t.Errorf("point %d: cx = %v, want %v from the x ticks", i, got, want)
+		}
+		if got, want := c.num(t, "cy"), py(pts[i].P); math.Abs(got-want) > 0.02 {
+			t.Errorf("point %d: cy = %v, want %v from the probability ticks", i, got, want)
+		}
+		if c.num(t, "data-x") != pts[i].X || c.num(t, "data-p") != pts[i].P {
+			t.Errorf("point %d: data-x/data-p = %s/%s, want %v/%v", i, c.Attr["data-x"], c.Attr["data-p"], pts[i].X, pts[i].P)
+		}
+	}
+	// The percentile marks sit at the fitted percentiles.
+	marks := find(ns, "line", "percentile")
+	if len(marks) != 3 {
+		t.Fatalf("%d percentile marks, want 3", len(marks))
+	}
+	for i, m := range marks {
+		want := px(fitViewOf(d).Percentiles[i])
+		if got := m.num(t, "x1"); math.Abs(got-want) > 0.02 {
+			t.Errorf("percentile mark %d at x %v, want %v", i, got, want)
+		}
+	}
+}
+
+// TestFitCDFPassesThroughMedian checks the drawn CDF against the Beta's
+// median, Beta(2, 2) being symmetric about 0.5 (Johnson, Kotz &
+// Balakrishnan 1995, ch. 25): the path crosses 50% at x = 0.5.
+func TestFitCDFPassesThroughMedian(t *testing.T) {
+	d := sbeta(2, 2, 0, 1)
+	ns := parse(t, render(t, Fit(fitViewOf(d))))
+	var xgrid, pgrid []node
+	xgrid = find(ns, "line", "grid-x")
+	for _, n := range find(ns, "line", "grid-y") {
+		if strings.HasSuffix(n.Attr["data-value"], "%") {
+			pgrid = append(pgrid, n)
+		}
+	}
+	px := axisMap(t, xgrid[:len(xgrid)/2], "x1", parseNumber)
+	py := axisMap(t, pgrid, "y1", parsePercent)
+	cdf := find(ns, "path", "curve-cdf")
+	if len(cdf) != 1 {
+		t.Fatalf("%d CDF paths, want 1", len(cdf))
+	}
+	wx, wy := px(0.5), py(0.5)
+	best := math.Inf(1)
+	for _, pt := range strings.Fields(strings.NewReplacer("M", " ", "L", " ").Replace(cdf[0].Attr["d"])) {
+		xy := strings.Split(pt, ",")
+		x, _ := strconv.ParseFloat(xy[0], 64)
+		y, _ := strconv.ParseFloat(xy[1], 64)
+		if math.Abs(x-wx) < 1.5 {
+			best = math.Min(best, math.Abs(y-wy))
+		}
+	}
+	if best > 1 {
+		t.Errorf("CDF path passes %v px from (0.5, 50%%)", best)
+	}
+}
+
+func TestFitCaptionSaysTheNumbers(t *testing.T) {
+	d := sbeta(4.2, 17.9, 0, 1)
+	v := fitViewOf(d, Point{0.06, 0.05}, Point{0.18, 0.5})
+	ns := parse(t, render(t, Fit(v)))
+	caps := find(ns, "figcaption", "")
+	descs := find(ns, "desc", "")
+	if len(caps) != 1 || len(descs) != 1 {
+		t.Fatalf("%d figcaptions and %d desc, want 1 each", len(caps), len(descs))
+	}
+	for _, want := range []string{
+		FormatValue(v.Percentiles[0]), FormatValue(v.Percentiles[1]), FormatValue(v.Percentiles[2]),
+		"Failure rate (per demand)", "Beta(α = 4.2, β = 17.9)", "5% chance below 0.06", "50% chance below 0.18",
+	} {
+		if !strings.Contains(caps[0].Text, want) {
+			t.Errorf("caption lacks %q: %s", want, caps[0].Text)
+		}
+		if !strings.Contains(descs[0].Text, want) {
+			t.Errorf("desc lacks %q", want)
+		}
+	}
+	svg := find(ns, "svg", "chart-svg")[0]
+	if svg.Attr["role"] != "img" || svg.Attr["aria-labelledby"] != "t-title t-desc" {
+		t.Errorf("svg role/aria-labelledby = %q/%q", svg.Attr["role"], svg.Attr["aria-labelledby"])
+	}
+	if len(find(ns, "title", "")) != 1 || find(ns, "title", "")[0].Attr["id"] != "t-title" {
+		t.Error("svg has no <title id=t-title>")
+	}
+	// The table holds the stated and fitted numbers.
+	var cells []string
+	for _, td := range find(ns, "td", "") {
+		cells = append(cells, td.Text)
+	}
+	joined := strings.Join(cells, "|")
+	for _, want := range []string{"0.06", "0.18", FormatValue(d.Quantile(0.05)), FormatPercent(d.CDF(0.06))} {
+		if !strings.Contains(joined, want) {
+			t.Errorf("table lacks %q: %s", want, joined)
+		}
+	}
+}
+
+func TestExtremeShapesStayFinite(t *testing.T) {
+	cases := []struct {
+		name string
+		d    elicit.ScaledBeta
+		cut  bool // the density is infinite at a bound, so the caption says it is cut
+		zoom string
+	}{
+		{"U-shaped", sbeta(0.3, 0.3, 0, 1), true, ""},
+		{"J-shaped", sbeta(0.5, 40, 0, 1), true, "stops at"},
+		{"very narrow", sbeta(2000, 50000, 0, 1), false, "runs from"},
+		{"scaled bounds", sbeta(0.5, 40, 10, 500), true, "stops at"},
+		{"uniform", sbeta(1, 1, 0, 1), false, ""},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			d := c.d
+			html := render(t, Fit(fitViewOf(d, Point{d.Quantile(0.25), 0.25}, Point{d.Quantile(0.75), 0.75})))
+			checkFinite(t, html)
+			cap := find(parse(t, html), "figcaption", "")[0].Text
+			if got := strings.Contains(cap, "rises above the top"); got != c.cut {
+				t.Errorf("caption says density cut = %v, want %v: %s", got, c.cut, cap)
+			}
+			if c.zoom == "" && strings.Contains(cap, "Zoomed") || c.zoom != "" && !strings.Contains(cap, c.zoom) {
+				t.Errorf("caption's zoom note, want %q: %s", c.zoom, cap)
+			}
+			panel := render(t, Panel(PanelView{ID: "p", Quantity: "q", Lower: d.Lower, Upper: d.Upper, Curves: []Curve{
+				{Label: "Expert 1", Dist: d},
+				{Label: "Expert 2", Dist: sbeta(3, 9, d.Lower, d.Upper)},
+				{Label: "Pool", Role: RolePool, PDF: func(x float64) float64 { return (d.PDF(x) + sbeta(3, 9, d.Lower, d.Upper).PDF(x)) / 2 },
+					CDF: func(x float64) float64 { return (d.CDF(x) + sbeta(3, 9, d.Lower, d.Upper).CDF(x)) / 2 }},
+			}}))
+			checkFinite(t, panel)
+		})
+	}
+}
+
+func TestInvalidDistributionIsSaidNotDrawn(t *testing.T) {
+	html := render(t, Fit(FitView{ID: "x", Lower: 0, Upper: 1, Dist: sbeta(math.NaN(), 2, 0, 1)}))
+	if strings.Contains(html, "<svg") || !strings.Contains(html, "not valid") {
+		t.Errorf("invalid fit: %s", html)
+	}
+	if strings.Contains(html, "NaN") {
+		t.Errorf("invalid fit writes NaN: %s", html)
+	}
+}
+
+func TestPanelLineStylesDiffer(t *testing.T) {
+	var cs []Curve
+	for i := range 6 {
+		cs = append(cs, Curve{Label: fmt.Sprintf("Expert %d", i+1), Role: RoleExpert, Dist: sbeta(2+float64(i), 8, 0, 1)})
+	}
+	cs = append(cs,
+		Curve{Label: "Pool", Role: RolePool, Dist: sbeta(4, 8, 0, 1)},
+		Curve{Label: "Agreed prior", Role: RoleAgreed, Dist: sbeta(4, 9, 0, 1)},
+		Curve{Label: "Consensus", Role: RoleConsensus, Dist: sbeta(4, 10, 0, 1)})
+	html := render(t, Panel(PanelView{ID: "p", Quantity: "Response rate", Lower: 0, Upper: 1, Curves: cs}))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	paths := find(ns, "path", "curve-cdf")
+	if len(paths) != len(cs) {
+		t.Fatalf("%d CDF paths, want %d", len(paths), len(cs))
+	}
+	seenStyle := map[string]string{}
+	seenDash := map[string]int{}
+	for i, p := range paths {
+		style := p.Attr["stroke"] + " " + p.Attr["stroke-dasharray"] + " " + p.Attr["stroke-width"]
+		if other, dup := seenStyle[style]; dup {
+			t.Errorf("%s and %s share the style %s", other, p.Attr["data-label"], style)
+		}
+		seenStyle[style] = p.Attr["data-label"]
+		seenDash[p.Attr["stroke-dasharray"]]++
+		// Neighbouring experts differ in dash pattern, not only hue.
+		if i > 0 && i < 6 && p.Attr["stroke-dasharray"] == paths[i-1].Attr["stroke-dasharray"] {
+			t.Errorf("experts %d and %d share a dash pattern", i, i+1)
+		}
+	}
+	if len(seenDash) < 5 {
+		t.Errorf("only %d dash patterns among %d curves", len(seenDash), len(cs))
+	}
+	ew, _ := strconv.ParseFloat(paths[0].Attr["stroke-width"], 64)
+	pw, _ := strconv.ParseFloat(paths[6].Attr["stroke-width"], 64)
+	if !(pw > ew) {
+		t.Errorf("pool width %v not thicker than expert %v", pw, ew)
+	}
+	// A legend sample per curve, with its label, and a table row per curve.
+	samples := find(ns, "line", "legend-sample")
+	labels := find(ns, "text", "legend-label")
+	if len(samples) != len(cs) || len(labels) != len(cs) {
+		t.Fatalf("legend has %d samples and %d labels, want %d", len(samples), len(labels), len(cs))
+	}
+	for i, c := range cs {
+		if labels[i].Text != c.Label || samples[i].Attr["stroke-dasharray"] != paths[i].Attr["stroke-dasharray"] {
+			t.Errorf("legend row %d: %q %q, want %q %q", i, labels[i].Text, samples[i].Attr["stroke-dasharray"], c.Label, paths[i].Attr["stroke-dasharray"])
+		}
+	}
+	if rows := find(ns, "tr", ""); len(rows) != len(cs)+1 {
+		t.Errorf("table has %d rows, want %d", len(rows), len(cs)+1)
+	}
+}
+
+// TestPanelMixtureQuantiles checks the table's percentiles of a curve given
+// only by its CDF against the closed form: an equal mixture of Beta(1, 1)
+// and Beta(2, 1) has CDF (x + x²)/2, whose median solves x² + x − 1 = 0,
+// x = (√5 − 1)/2 ≈ 0.618.
+func TestPanelMixtureQuantiles(t *testing.T) {
+	mix := Curve{Label: "Pool", Role: RolePool,
+		PDF: func(x float64) float64 { return (1 + 2*x) / 2 },
+		CDF: func(x float64) float64 { return (x + x*x) / 2 }}
+	m := newPanelModel(PanelView{Lower: 0, Upper: 1, Curves: []Curve{mix}})
+	if got, want := m.Legend[0].P50, FormatValue((math.Sqrt(5)-1)/2); got != want {
+		t.Errorf("mixture median = %s, want %s", got, want)
+	}
+}
+
+func TestDensityCap(t *testing.T) {
+	cases := []struct {
+		name    string
+		samples []float64
+		top     float64
+		capped  bool
+	}{
+		{"bell", []float64{0, 1, 3, 5, 3, 1, 0}, 5, false},
+		{"infinite at the bound", []float64{math.Inf(1), 3, 2, 1.5, 1, 0.8, 0.5, 0.2}, 3, true},
+		// Upper quartile of the eight samples is 3; 400 > 3·3, so the top is 9.
+		{"spike", []float64{400, 3, 2, 1.5, 1, 0.8, 0.5, 0.2}, 9, true},
+		{"all zero", []float64{0, 0}, 1, false},
+	}
+	for _, c := range cases {
+		top, capped := densityCap(c.samples)
+		if !near(top, c.top) || capped != c.capped {
+			t.Errorf("%s: densityCap = %v, %v; want %v, %v", c.name, top, capped, c.top, c.capped)
+		}
+	}
+}
+
+func TestScoresLogScale(t *testing.T) {
+	rows := []ScoreRow{
+		{Expert: "Expert A", Calibration: 1, Information: 2, Weight: 0.5},
+		{Expert: "Expert B", Calibration: 0.1, Information: 1, Weight: 0.25},
+		{Expert: "Expert C", Calibration: 0.01, Information: 0.5, Weight: 0.25},
+	}
+	ns := parse(t, render(t, Scores(rows)))
+	bars := find(ns, "rect", "bar")
+	if len(bars) != 9 {
+		t.Fatalf("%d bars, want 9", len(bars))
+	}
+	// Calibration on log10 from 0.01 to 1: 1 → full, 0.1 → half, 0.01 → none.
+	full := bars[0].num(t, "width")
+	if got := bars[1].num(t, "width"); math.Abs(got-full/2) > 0.02 {
+		t.Errorf("calibration 0.1 bar = %v px, want half of %v", got, full)
+	}
+	if got := bars[2].num(t, "width"); got != 0 {
+		t.Errorf("calibration 0.01 bar = %v px, want 0 at the axis start", got)
+	}
+	// Information and weight are linear.
+	if a, b := bars[3].num(t, "width"), bars[4].num(t, "width"); math.Abs(a-2*b) > 0.02 {
+		t.Errorf("information bars %v and %v, want 2:1", a, b)
+	}
+	if a, b := bars[6].num(t, "width"), bars[7].num(t, "width"); math.Abs(a-2*b) > 0.02 {
+		t.Errorf("weight bars %v and %v, want 2:1", a, b)
+	}
+	var cells []string
+	for _, td := range find(ns, "td", "") {
+		cells = append(cells, td.Text)
+	}
+	if got := strings.Join(cells, " "); got != "1 2 0.5 0.1 1 0.25 0.01 0.5 0.25" {
+		t.Errorf("table cells = %q", got)
+	}
+}
+
+func TestScoresMissingValues(t *testing.T) {
+	html := render(t, Scores([]ScoreRow{{Expert: "Expert A", Calibration: math.NaN(), Information: math.Inf(1), Weight: 2}}))
+	if strings.Contains(html, "NaN") || strings.Contains(html, "Inf") {
+		t.Errorf("output writes non-finite values")
+	}
+	if n := strings.Count(html, "not available"); n < 3 {
+		t.Errorf("%d 'not available' notes, want 3 bars + table", n)
+	}
+}

@@ -1,0 +1,110 @@
+package chart
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/a-h/templ"
+)
+
+// PanelView is several curves for one question overlaid: experts, the
+// pool, the agreed prior. Labels are the caller's choice; for experts'
+// own pages they are anonymous ("Expert 1").
+type PanelView struct {
+	ID       string
+	Quantity string
+	Units    string
+	Lower    float64
+	Upper    float64
+	Curves   []Curve
+}
+
+const legendX = twinLeft + twinPlotW + 22
+
+type legendGeom struct {
+	Y, TextY string
+	X1, X2   string
+	TextX    string
+	Label    string
+	Role     string
+	Stroke   string
+	Width    string
+	Dash     string
+	DashName string
+	P5, P50  string
+	P95      string
+	Params   string
+}
+
+type panelModel struct {
+	ID      string
+	Twin    twinGeom
+	Title   string
+	Desc    string
+	Legend  []legendGeom
+	Units   string
+	Invalid string
+}
+
+// Panel draws every curve's density and CDF on shared axes, each in its
+// own hue, dash pattern and width, with a legend of line samples and a
+// table of each curve's 5th, 50th and 95th percentiles.
+func Panel(v PanelView) templ.Component {
+	return panelFigure(newPanelModel(v))
+}
+
+func newPanelModel(v PanelView) panelModel {
+	m := panelModel{ID: v.ID, Units: v.Units}
+	if m.ID == "" {
+		m.ID = "panel"
+	}
+	var curves []Curve
+	for _, c := range v.Curves {
+		if c.valid() {
+			curves = append(curves, c)
+		}
+	}
+	if len(curves) == 0 {
+		m.Invalid = "No curves to draw yet."
+		return m
+	}
+	g := newTwin(v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false)
+	rows := 0
+	var words []string
+	for i, c := range curves {
+		l := g.Lines[i]
+		y := twinTop + 8 + float64(rows)*22
+		rows++
+		lg := legendGeom{
+			Y: coord(y), TextY: coord(y + 4.5), X1: coord(legendX), X2: coord(legendX + 34),
+			TextX: coord(legendX + 42), Label: c.Label, Role: l.Role,
+			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
+		}
+		p := [3]float64{}
+		for k, q := range percentileProbs {
+			p[k] = c.quantile(q, v.Lower, v.Upper)
+		}
+		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
+		if !c.usesFuncs() {
+			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatValue(c.Dist.Alpha), FormatValue(c.Dist.Beta.Beta))
+		}
+		m.Legend = append(m.Legend, lg)
+		words = append(words, fmt.Sprintf("%s (%s line): median %s, 90%% between %s and %s",
+			c.Label, l.DashName, lg.P50, lg.P5, lg.P95))
+	}
+	if lh := twinTop + 8 + float64(rows)*22 + 10; lh > g.Height {
+		g.Height = lh
+	}
+	g.ViewBox = "0 0 " + coord(legendX+190) + " " + coord(g.Height)
+	m.Twin = g
+	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
+	var b strings.Builder
+	fmt.Fprintf(&b, "Densities (upper plot) and cumulative probabilities (lower plot) of %s, between the bounds %s and %s. ",
+		axisTitle(v.Quantity, v.Units), FormatValue(v.Lower), FormatValue(v.Upper))
+	b.WriteString(strings.Join(words, "; ") + ". ")
+	for _, n := range g.Notes {
+		b.WriteString(n + " ")
+	}
+	m.Desc = strings.TrimSpace(b.String())
+	return m
+}
