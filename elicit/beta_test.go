@@ -1,0 +1,213 @@
+package elicit
+
+import (
+	"bufio"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// refRow is one row of testdata/r/beta_reference.csv, written by
+// testdata/r/beta_reference.R with R's pbeta, qbeta and optim (the R
+// version is on the file's first line).
+type refRow struct {
+	kind, name   string
+	alpha, beta  float64
+	arg, value   float64
+	probs, vals  []float64
+	lower, upper float64
+}
+
+const refPath = "../testdata/r/beta_reference.csv"
+
+func readReference(t *testing.T) []refRow {
+	t.Helper()
+	f, err := os.Open(refPath)
+	if err != nil {
+		t.Fatalf("open R reference table: %v", err)
+	}
+	defer f.Close()
+	num := func(s string) float64 {
+		if s == "" {
+			return math.NaN()
+		}
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			t.Fatalf("bad number %q in %s: %v", s, refPath, err)
+		}
+		return v
+	}
+	list := func(s string) []float64 {
+		if s == "" {
+			return nil
+		}
+		var out []float64
+		for _, x := range strings.Split(s, ";") {
+			out = append(out, num(x))
+		}
+		return out
+	}
+	var rows []refRow
+	sc := bufio.NewScanner(f)
+	line := 0
+	for sc.Scan() {
+		line++
+		text := sc.Text()
+		if line == 1 {
+			if !strings.HasPrefix(text, "# R version") {
+				t.Fatalf("%s: first line should name the R version, got %q", refPath, text)
+			}
+			continue
+		}
+		if line == 2 {
+			continue // header
+		}
+		c := strings.Split(text, ",")
+		if len(c) != 10 {
+			t.Fatalf("%s:%d: want 10 columns, got %d", refPath, line, len(c))
+		}
+		rows = append(rows, refRow{
+			kind: c[0], name: c[1], alpha: num(c[2]), beta: num(c[3]),
+			arg: num(c[4]), value: num(c[5]), probs: list(c[6]), vals: list(c[7]),
+			lower: num(c[8]), upper: num(c[9]),
+		})
+	}
+	if err := sc.Err(); err != nil {
+		t.Fatal(err)
+	}
+	return rows
+}
+
+// TestBetaAgainstR compares CDF and Quantile with R's pbeta and qbeta over
+// a grid of shapes from 0.05 to 1e4 (source: R, see refRow). Quantiles
+// must agree to 1e-9 relative; CDF values to 1e-9 relative, or 1e-15
+// absolute where R's value is below 1e-6.
+func TestBetaAgainstR(t *testing.T) {
+	var nq, np int
+	for _, r := range readReference(t) {
+		d, err := NewBeta(r.alpha, r.beta)
+		if err != nil {
+			t.Fatalf("reference shape: %v", err)
+		}
+		switch r.kind {
+		case "qbeta":
+			nq++
+			got := d.Quantile(r.arg)
+			if rel := math.Abs(got-r.value) / r.value; !(rel <= 1e-9) {
+				t.Errorf("Beta(%g, %g).Quantile(%g) = %.17g, R qbeta %.17g (rel %.1e)", r.alpha, r.beta, r.arg, got, r.value, rel)
+			}
+		case "pbeta":
+			np++
+			got := d.CDF(r.arg)
+			diff := math.Abs(got - r.value)
+			if !(diff <= 1e-9*r.value || (r.value < 1e-6 && diff <= 1e-15)) {
+				t.Errorf("Beta(%g, %g).CDF(%g) = %.17g, R pbeta %.17g (diff %.1e)", r.alpha, r.beta, r.arg, got, r.value, diff)
+			}
+		}
+	}
+	if nq < 500 || np < 500 {
+		t.Fatalf("reference table too small: %d qbeta, %d pbeta rows", nq, np)
+	}
+}
+
+// TestBetaClosedForms checks closed forms, each with its source.
+func TestBetaClosedForms(t *testing.T) {
+	const tol = 1e-12
+	// Beta(1,1) is the uniform distribution on [0,1]: f = 1, F(x) = x,
+	// Q(p) = p, mean 1/2, variance 1/12 (Johnson, Kotz & Balakrishnan 1995,
+	// vol. 2, ch. 25, §2).
+	u := Beta{1, 1}
+	for _, x := range []float64{1e-9, 0.1, 0.25, 0.5, 0.9, 1 - 1e-9} {
+		if got := u.CDF(x); math.Abs(got-x) > tol {
+			t.Errorf("Beta(1,1).CDF(%g) = %g, want %g", x, got, x)
+		}
+		if got := u.Quantile(x); math.Abs(got-x) > tol {
+			t.Errorf("Beta(1,1).Quantile(%g) = %g, want %g", x, got, x)
+		}
+		if got := u.PDF(x); math.Abs(got-1) > tol {
+			t.Errorf("Beta(1,1).PDF(%g) = %g, want 1", x, got)
+		}
+	}
+	if math.Abs(u.Mean()-0.5) > tol || math.Abs(u.Variance()-1.0/12) > tol {
+		t.Errorf("Beta(1,1) mean %g variance %g, want 1/2 and 1/12", u.Mean(), u.Variance())
+	}
+	// Beta(a,1) has F(x) = x^a, so Q(p) = p^(1/a) (same source, ch. 25 §2:
+	// the power-function distribution).
+	for _, a := range []float64{0.05, 0.3, 1, 2.5, 40, 1000} {
+		d := Beta{a, 1}
+		for _, p := range []float64{0.001, 0.05, 0.5, 0.95, 0.999} {
+			want := math.Pow(p, 1/a)
+			if got := d.Quantile(p); math.Abs(got-want) > 1e-10*want {
+				t.Errorf("Beta(%g,1).Quantile(%g) = %.15g, want p^(1/a) = %.15g", a, p, got, want)
+			}
+			x := want
+			if got := d.CDF(x); math.Abs(got-p) > 1e-10 {
+				t.Errorf("Beta(%g,1).CDF(%g) = %.15g, want x^a = %g", a, x, got, p)
+			}
+		}
+	}
+	// Mean α/(α+β), variance αβ/((α+β)²(α+β+1)), mode (α−1)/(α+β−2)
+	// (same source, ch. 25 §2); checked against worked values by hand:
+	// Beta(2,3): mean 0.4, variance 6/(25·6) = 0.04, mode 1/3.
+	d := Beta{2, 3}
+	if math.Abs(d.Mean()-0.4) > tol || math.Abs(d.Variance()-0.04) > tol || math.Abs(d.SD()-0.2) > tol {
+		t.Errorf("Beta(2,3): mean %g var %g sd %g, want 0.4, 0.04, 0.2", d.Mean(), d.Variance(), d.SD())
+	}
+	if m, ok := d.Mode(); !ok || math.Abs(m-1.0/3) > tol {
+		t.Errorf("Beta(2,3).Mode() = %g, %v; want 1/3, true", m, ok)
+	}
+	if d.ESS() != 5 {
+		t.Errorf("Beta(2,3).ESS() = %g, want 5", d.ESS())
+	}
+	// Scaled Beta: X = L + (U−L)Y, so F_X(x) = F_Y((x−L)/(U−L)),
+	// Q_X(p) = L + (U−L)Q_Y(p), E X = L + (U−L)E Y, Var X = (U−L)² Var Y,
+	// f_X(x) = f_Y((x−L)/(U−L))/(U−L) (change of variables; same source,
+	// ch. 25 §1, the four-parameter form).
+	s := ScaledBeta{Beta: Beta{2, 3}, Lower: -10, Upper: 10}
+	for _, y := range []float64{0.05, 0.3, 0.7} {
+		x := -10 + 20*y
+		if got, want := s.CDF(x), d.CDF(y); math.Abs(got-want) > tol {
+			t.Errorf("scaled CDF(%g) = %g, want %g", x, got, want)
+		}
+		if got, want := s.PDF(x), d.PDF(y)/20; math.Abs(got-want) > tol {
+			t.Errorf("scaled PDF(%g) = %g, want %g", x, got, want)
+		}
+		if got, want := s.Quantile(y), -10+20*d.Quantile(y); math.Abs(got-want) > tol {
+			t.Errorf("scaled Quantile(%g) = %g, want %g", y, got, want)
+		}
+	}
+	if math.Abs(s.Mean()-(-2)) > tol || math.Abs(s.Variance()-16) > tol || math.Abs(s.SD()-4) > tol {
+		t.Errorf("scaled Beta(2,3) on [-10,10]: mean %g var %g, want -2 and 16", s.Mean(), s.Variance())
+	}
+	if m, ok := s.Mode(); !ok || math.Abs(m-(-10+20.0/3)) > tol {
+		t.Errorf("scaled mode %g, %v", m, ok)
+	}
+}
+
+// TestBetaValidate checks the parameter rules through NewBeta and
+// NewScaledBeta.
+func TestBetaValidate(t *testing.T) {
+	cases := []struct {
+		a, b, lo, hi float64
+		field        string
+		rule         Rule
+	}{
+		{0, 1, 0, 1, "alpha", RulePositive},
+		{1, -2, 0, 1, "beta", RulePositive},
+		{math.NaN(), 1, 0, 1, "alpha", RuleFinite},
+		{1, math.Inf(1), 0, 1, "beta", RuleFinite},
+		{1, 1, math.Inf(-1), 1, "lower", RuleFinite},
+		{1, 1, 0, math.NaN(), "upper", RuleFinite},
+		{1, 1, 2, 1, "lower", RuleBoundsOrder},
+		{1, 1, 1, 1, "lower", RuleBoundsOrder},
+	}
+	for _, c := range cases {
+		_, err := NewScaledBeta(c.a, c.b, c.lo, c.hi)
+		checkRule(t, err, c.field, c.rule)
+	}
+	if _, err := NewScaledBeta(2, 3, -1, 1); err != nil {
+		t.Errorf("valid scaled Beta rejected: %v", err)
+	}
+}

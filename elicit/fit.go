@@ -1,0 +1,484 @@
+package elicit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mat"
+	"gonum.org/v1/gonum/optimize"
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// PoorFitThreshold is the largest probability error |F(xᵢ) − pᵢ| above
+// which a fit is reported as poor (WarnPoorFit).
+const PoorFitThreshold = 0.05
+
+// NearCertaintyESS is the effective sample size α+β above which a fit is
+// reported as implying near-certainty (WarnNearCertainty).
+const NearCertaintyESS = 1000
+
+// WarningCode names one thing a facilitator should look at in a fit.
+type WarningCode string
+
+// The warnings a fit can carry.
+const (
+	// WarnUShaped: α < 1 and β < 1, so the density is unbounded at both
+	// ends and lowest in the middle.
+	WarnUShaped WarningCode = "u_shaped"
+	// WarnJShaped: exactly one of α, β is below 1 (and the other is at
+	// least 1), so the density is unbounded at one end.
+	WarnJShaped WarningCode = "j_shaped"
+	// WarnPoorFit: the largest probability error exceeds PoorFitThreshold.
+	WarnPoorFit WarningCode = "poor_fit"
+	// WarnNearCertainty: α+β exceeds NearCertaintyESS.
+	WarnNearCertainty WarningCode = "near_certainty"
+)
+
+// Warning is one caution about a fit; Message is plain language for a
+// facilitator.
+type Warning struct {
+	Code    WarningCode `json:"code"`
+	Message string      `json:"message"`
+}
+
+// Fit is a Beta fitted to an expert's judgement, with what a facilitator
+// needs to judge the fit.
+type Fit struct {
+	Dist         ScaledBeta `json:"dist"`           // alpha, beta, lower, upper
+	SSE          float64    `json:"sse"`            // least-squares objective Σ (F(xᵢ) − pᵢ)²
+	Probs        []float64  `json:"probs"`          // stated probabilities
+	Stated       []float64  `json:"stated"`         // stated values
+	Fitted       []float64  `json:"fitted"`         // fitted quantiles at Probs
+	ProbErrors   []float64  `json:"prob_errors"`    // F(stated_i) − p_i
+	MaxProbError float64    `json:"max_prob_error"` // max |ProbErrors[i]|
+	Percentiles  [3]float64 `json:"percentiles"`    // fitted 5th, 50th and 95th percentiles
+	Warnings     []Warning  `json:"warnings"`
+}
+
+// ErrFitFailed is returned (wrapped) when the optimiser cannot produce a
+// finite fit. It is never replaced by a guess.
+var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
+
+// FitQuantiles fits a Beta on [j.Lower, j.Upper] to the judgement by least
+// squares on the probability scale,
+//
+//	minimise S(α, β) = Σᵢ (F(uᵢ; α, β) − pᵢ)²,  uᵢ = (xᵢ − lower)/(upper − lower),
+//
+// the usual choice in the elicitation literature (O'Hagan et al. 2006,
+// "Uncertain Judgements", §6.4). The search runs over (log α, log β) with
+// gonum/optimize from a moment-based start and, unless that start already
+// gives a close fit, from a deterministic grid of further starts. A
+// judgement of two pairs is matched exactly (|F(xᵢ) − pᵢ| ≤ 1e-9) by a
+// final Newton root-finding polish.
+func FitQuantiles(j Judgement) (Fit, error) {
+	if err := j.Validate(); err != nil {
+		return Fit{}, err
+	}
+	d, sse, err := fitCumulative(j.unit(), j.Probs)
+	if err != nil {
+		return Fit{}, err
+	}
+	return newFit(ScaledBeta{Beta: d, Lower: j.Lower, Upper: j.Upper}, j.Probs, j.Values, sse), nil
+}
+
+// newFit fills in the report of a fit at the solution d.
+func newFit(d ScaledBeta, probs, values []float64, sse float64) Fit {
+	f := Fit{
+		Dist:       d,
+		SSE:        sse,
+		Probs:      append([]float64(nil), probs...),
+		Stated:     append([]float64(nil), values...),
+		Fitted:     make([]float64, len(probs)),
+		ProbErrors: make([]float64, len(probs)),
+		Warnings:   []Warning{},
+	}
+	for i, p := range probs {
+		f.Fitted[i] = d.Quantile(p)
+		f.ProbErrors[i] = d.CDF(values[i]) - p
+		f.MaxProbError = math.Max(f.MaxProbError, math.Abs(f.ProbErrors[i]))
+	}
+	for k, p := range [3]float64{0.05, 0.5, 0.95} {
+		f.Percentiles[k] = d.Quantile(p)
+		for i, q := range probs {
+			if q == p {
+				f.Percentiles[k] = f.Fitted[i]
+			}
+		}
+	}
+	f.Warnings = fitWarnings(d.Beta, f.MaxProbError)
+	return f
+}
+
+// fitWarnings applies the warning rules to a fitted Beta.
+func fitWarnings(d Beta, maxErr float64) []Warning {
+	w := []Warning{}
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a < 1 && b < 1:
+		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
+			"The fitted density is U-shaped (alpha %.3g and beta %.3g are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", a, b)})
+	case a < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"The fitted density is J-shaped (alpha %.3g is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", a)})
+	case b < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"The fitted density is J-shaped (beta %.3g is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", b)})
+	}
+	if maxErr > PoorFitThreshold {
+		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(
+			"The fitted Beta misses one of the stated probabilities by %.3f (more than %.2f): no single Beta matches these answers well. Show the expert the fit and ask whether they want to revise.", maxErr, PoorFitThreshold)})
+	}
+	if ess := a + b; ess > NearCertaintyESS {
+		w = append(w, Warning{WarnNearCertainty, fmt.Sprintf(
+			"The fitted prior is worth about %.0f observed trials (alpha+beta above %d): it implies near-certainty about the value. Check that the expert really is this sure.", ess, NearCertaintyESS)})
+	}
+	return w
+}
+
+// Limits of the search in log-parameter space: α and β in [1e-6, 1e9].
+// Outside it the objective is +Inf, so line searches step back.
+var (
+	logParamMin = math.Log(1e-6)
+	logParamMax = math.Log(1e9)
+)
+
+const (
+	// closeFit is the largest probability error at which the fit from the
+	// moment-based start is accepted without trying further starts.
+	closeFit = 0.005
+	// exactTol is the largest probability error of an exactly determined
+	// (two-pair) fit after the root-finding polish.
+	exactTol = 1e-12
+	// fdStep is the forward-difference step in log α and log β.
+	fdStep = 1e-7
+)
+
+// fitCumulative is the generalised least-squares fitter behind
+// FitQuantiles and FitChips: it minimises Σ (F(uᵢ; α, β) − pᵢ)² for
+// points uᵢ strictly inside (0, 1) and cumulative fractions pᵢ in [0, 1]
+// (chips may put 0 or 1 at interior points). The caller validates.
+func fitCumulative(u, p []float64) (Beta, float64, error) {
+	q := &lsq{u: u, p: p, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+	best, bestF := q.localFit(q.momentStart())
+	if !(q.maxAbsResid(best[:]) <= closeFit) {
+		for _, th := range q.gridStarts(3) {
+			x, f := q.localFit(th)
+			if f < bestF {
+				best, bestF = x, f
+			}
+		}
+	}
+	if q.exactlyDetermined() {
+		best = q.polishRoot(best)
+		bestF = q.sse(best[:])
+	}
+	d := Beta{Alpha: math.Exp(best[0]), Beta: math.Exp(best[1])}
+	if math.IsNaN(bestF) || math.IsInf(bestF, 0) || d.Validate() != nil {
+		return Beta{}, 0, fmt.Errorf("%w: alpha %v, beta %v, objective %v", ErrFitFailed, d.Alpha, d.Beta, bestF)
+	}
+	return d, bestF, nil
+}
+
+// lsq is the least-squares problem in θ = (log α, log β), with the
+// residuals and their forward-difference Jacobian cached at the last θ.
+type lsq struct {
+	u, p  []float64
+	r, rh []float64 // residuals at θ and at a shifted θ
+	jac   [][2]float64
+	th    [2]float64 // θ at which r and jac are cached
+	hasR  bool
+	hasJ  bool
+}
+
+func inBox(th []float64) bool {
+	return th[0] >= logParamMin && th[0] <= logParamMax && th[1] >= logParamMin && th[1] <= logParamMax
+}
+
+// resid writes F(uᵢ; e^θ₀, e^θ₁) − pᵢ into r.
+func (q *lsq) resid(th []float64, r []float64) {
+	a, b := math.Exp(th[0]), math.Exp(th[1])
+	d := distuv.Beta{Alpha: a, Beta: b}
+	for i, x := range q.u {
+		r[i] = d.CDF(x) - q.p[i]
+	}
+}
+
+func (q *lsq) at(th []float64) {
+	if q.hasR && q.th[0] == th[0] && q.th[1] == th[1] {
+		return
+	}
+	q.th = [2]float64{th[0], th[1]}
+	q.resid(th, q.r)
+	q.hasR, q.hasJ = true, false
+}
+
+func (q *lsq) jacobian(th []float64) {
+	q.at(th)
+	if q.hasJ {
+		return
+	}
+	if q.jac == nil {
+		q.jac = make([][2]float64, len(q.u))
+	}
+	for k := 0; k < 2; k++ {
+		s := []float64{th[0], th[1]}
+		s[k] += fdStep
+		q.resid(s, q.rh)
+		for i := range q.u {
+			q.jac[i][k] = (q.rh[i] - q.r[i]) / fdStep
+		}
+	}
+	q.hasJ = true
+}
+
+func (q *lsq) sse(th []float64) float64 {
+	if !inBox(th) {
+		return math.Inf(1)
+	}
+	q.at(th)
+	s := 0.0
+	for _, v := range q.r {
+		s += v * v
+	}
+	return s
+}
+
+func (q *lsq) maxAbsResid(th []float64) float64 {
+	q.at(th)
+	m := 0.0
+	for _, v := range q.r {
+		m = math.Max(m, math.Abs(v))
+	}
+	return m
+}
+
+// grad is ∇S = 2 Jᵀ r.
+func (q *lsq) grad(g, th []float64) {
+	q.jacobian(th)
+	g[0], g[1] = 0, 0
+	for i, v := range q.r {
+		g[0] += 2 * q.jac[i][0] * v
+		g[1] += 2 * q.jac[i][1] * v
+	}
+}
+
+// hess is the Gauss–Newton approximation 2 JᵀJ of ∇²S.
+func (q *lsq) hess(h *mat.SymDense, th []float64) {
+	q.jacobian(th)
+	var h00, h01, h11 float64
+	for _, j := range q.jac {
+		h00 += 2 * j[0] * j[0]
+		h01 += 2 * j[0] * j[1]
+		h11 += 2 * j[1] * j[1]
+	}
+	h.SetSym(0, 0, h00)
+	h.SetSym(0, 1, h01)
+	h.SetSym(1, 1, h11)
+}
+
+// localFit runs gonum's Newton method (with the Gauss–Newton Hessian and
+// a backtracking line search) from θ₀ and returns the best point seen.
+func (q *lsq) localFit(th0 [2]float64) ([2]float64, float64) {
+	start := th0
+	f0 := q.sse(start[:])
+	prob := optimize.Problem{
+		Func: q.sse,
+		Grad: q.grad,
+		Hess: q.hess,
+	}
+	settings := &optimize.Settings{
+		GradientThreshold: 1e-15,
+		MajorIterations:   200,
+		Converger:         &optimize.FunctionConverge{Absolute: 1e-17, Relative: 1e-12, Iterations: 4},
+	}
+	res, _ := optimize.Minimize(prob, start[:], settings, &optimize.Newton{Linesearcher: &optimize.Backtracking{}})
+	// A line-search failure after reaching the minimum is not an error
+	// for us: keep the best finite point, which Minimize reports.
+	if res != nil && !math.IsNaN(res.F) && res.F <= f0 && inBox(res.X) {
+		return [2]float64{res.X[0], res.X[1]}, res.F
+	}
+	return start, f0
+}
+
+// exactlyDetermined reports whether the data are two pairs with
+// probabilities strictly inside (0, 1), which a Beta can match exactly.
+func (q *lsq) exactlyDetermined() bool {
+	if len(q.u) != 2 {
+		return false
+	}
+	for _, p := range q.p {
+		if !(p > 0 && p < 1) {
+			return false
+		}
+	}
+	return true
+}
+
+// polishRoot solves r(θ) = 0 for two residuals by Newton's method with the
+// forward-difference Jacobian, keeping a step only while it shrinks the
+// largest residual.
+func (q *lsq) polishRoot(th [2]float64) [2]float64 {
+	cur := q.maxAbsResid(th[:])
+	for it := 0; it < 20 && cur > exactTol; it++ {
+		q.jacobian(th[:])
+		j := q.jac
+		det := j[0][0]*j[1][1] - j[0][1]*j[1][0]
+		if det == 0 || math.IsNaN(det) {
+			break
+		}
+		r0, r1 := q.r[0], q.r[1]
+		d0 := (j[1][1]*r0 - j[0][1]*r1) / det
+		d1 := (-j[1][0]*r0 + j[0][0]*r1) / det
+		next := [2]float64{th[0] - d0, th[1] - d1}
+		if !inBox(next[:]) {
+			break
+		}
+		m := q.maxAbsResid(next[:])
+		if !(m < cur) {
+			break
+		}
+		th, cur = next, m
+	}
+	return th
+}
+
+// momentStart is the better (by the objective) of two moment-based starts
+// from the stated quantiles: a normal approximation on the probability
+// scale, u ≈ m + s·zᵢ with zᵢ = Φ⁻¹(pᵢ), turned into α, β by the method of
+// moments; and a logit-normal approximation, logit u ≈ μ + σ·zᵢ, using
+// α/β ≈ e^μ and 1/α + 1/β ≈ σ² (the large-α, β forms of the mean and
+// variance of logit Y: ψ(α) − ψ(β) and ψ′(α) + ψ′(β); Johnson, Kotz &
+// Balakrishnan 1995, ch. 25). Both lines are least-squares lines through
+// the pairs with pᵢ strictly inside (0, 1).
+func (q *lsq) momentStart() [2]float64 {
+	var zs, us, ls []float64
+	for i, p := range q.p {
+		if p > 0 && p < 1 {
+			z := distuv.UnitNormal.Quantile(p)
+			zs = append(zs, z)
+			us = append(us, q.u[i])
+			ls = append(ls, math.Log(q.u[i]/(1-q.u[i])))
+		}
+	}
+	var cands [][2]float64
+	if m, s, ok := line(zs, us); ok && m > 0 && m < 1 && s > 0 {
+		ess := m*(1-m)/(s*s) - 1
+		if ess < 0.5 {
+			ess = 0.5
+		}
+		cands = append(cands, logShape(m, ess))
+	}
+	if mu, sg, ok := line(zs, ls); ok && sg > 0 {
+		m := 1 / (1 + math.Exp(-mu))
+		cands = append(cands, logShape(m, 1/(sg*sg*m*(1-m))))
+	}
+	if len(cands) == 0 {
+		cands = append(cands, logShape(q.medianGuess(), 2))
+	}
+	best, bestF := cands[0], math.Inf(1)
+	for _, c := range cands {
+		c = clampBox(c)
+		if f := q.sse(c[:]); f < bestF {
+			best, bestF = c, f
+		}
+	}
+	return best
+}
+
+// medianGuess interpolates the cumulative points (0,0), (uᵢ,pᵢ), (1,1)
+// linearly at probability 0.5.
+func (q *lsq) medianGuess() float64 {
+	pu, pp := 0.0, 0.0
+	for i, p := range append(q.p, 1) {
+		x := 1.0
+		if i < len(q.u) {
+			x = q.u[i]
+		}
+		if p >= 0.5 {
+			if p == pp {
+				return x
+			}
+			return pu + (x-pu)*(0.5-pp)/(p-pp)
+		}
+		pu, pp = x, p
+	}
+	return 0.5
+}
+
+// gridStarts returns the k best points, by the objective, of a
+// deterministic grid of further starts: α+β log-spaced from 0.3 to 1e5 and
+// the mean at each stated point, between neighbouring points and beyond
+// the outermost ones.
+func (q *lsq) gridStarts(k int) [][2]float64 {
+	means := make([]float64, 0, 2*len(q.u)+1)
+	prev := 0.0
+	for _, x := range q.u {
+		means = append(means, (prev+x)/2, x)
+		prev = x
+	}
+	means = append(means, (prev+1)/2)
+	type pt struct {
+		th [2]float64
+		f  float64
+	}
+	var pts []pt
+	for e := math.Log(0.3); e <= math.Log(1e5)+1e-9; e += math.Log(1e5/0.3) / 9 {
+		for _, m := range means {
+			th := clampBox(logShape(m, math.Exp(e)))
+			pts = append(pts, pt{th, q.sse(th[:])})
+		}
+	}
+	out := make([][2]float64, 0, k)
+	for len(out) < k && len(pts) > 0 {
+		bi := 0
+		for i := range pts {
+			if pts[i].f < pts[bi].f {
+				bi = i
+			}
+		}
+		out = append(out, pts[bi].th)
+		pts = append(pts[:bi], pts[bi+1:]...)
+	}
+	return out
+}
+
+// logShape is θ = (log mα, log (1−m)α) for mean m and α+β = ess.
+func logShape(m, ess float64) [2]float64 {
+	return [2]float64{math.Log(m * ess), math.Log((1 - m) * ess)}
+}
+
+func clampBox(th [2]float64) [2]float64 {
+	for k := range th {
+		th[k] = math.Max(logParamMin, math.Min(logParamMax, th[k]))
+		if math.IsNaN(th[k]) {
+			th[k] = 0
+		}
+	}
+	return th
+}
+
+// line is the least-squares line y ≈ a + b·x; ok is false with fewer than
+// two distinct x.
+func line(x, y []float64) (a, b float64, ok bool) {
+	n := float64(len(x))
+	if len(x) < 2 {
+		return 0, 0, false
+	}
+	var sx, sy float64
+	for i := range x {
+		sx += x[i]
+		sy += y[i]
+	}
+	mx, my := sx/n, sy/n
+	var sxx, sxy float64
+	for i := range x {
+		sxx += (x[i] - mx) * (x[i] - mx)
+		sxy += (x[i] - mx) * (y[i] - my)
+	}
+	if sxx == 0 {
+		return 0, 0, false
+	}
+	b = sxy / sxx
+	return my - b*mx, b, true
+}

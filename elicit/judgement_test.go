@@ -1,0 +1,56 @@
+package elicit
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// checkRule fails unless err is an *InputError with the given field and rule.
+func checkRule(t *testing.T, err error, field string, rule Rule) {
+	t.Helper()
+	var ie *InputError
+	if !errors.As(err, &ie) {
+		t.Errorf("want InputError %s/%q, got %v", field, rule, err)
+		return
+	}
+	if ie.Field != field || ie.Rule != rule {
+		t.Errorf("got %s/%q, want %s/%q (%v)", ie.Field, ie.Rule, field, rule, err)
+	}
+}
+
+func TestJudgementValidate(t *testing.T) {
+	nan, inf := math.NaN(), math.Inf(1)
+	ok := Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1}
+	if err := ok.Validate(); err != nil {
+		t.Fatalf("valid judgement rejected: %v", err)
+	}
+	cases := []struct {
+		name  string
+		j     Judgement
+		field string
+		rule  Rule
+	}{
+		{"lower NaN", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, nan, 1}, "lower", RuleFinite},
+		{"upper Inf", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 0, inf}, "upper", RuleFinite},
+		{"bounds order", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 1, 0}, "lower", RuleBoundsOrder},
+		{"length", Judgement{[]float64{0.5, 0.9}, []float64{0.1}, 0, 1}, "values", RuleLengthMatch},
+		{"too few", Judgement{[]float64{0.5}, []float64{0.1}, 0, 1}, "probs", RuleCount},
+		{"too many", Judgement{make([]float64, 10), make([]float64, 10), 0, 1}, "probs", RuleCount},
+		{"prob NaN", Judgement{[]float64{0.5, nan}, []float64{0.1, 0.2}, 0, 1}, "probs[1]", RuleFinite},
+		{"prob 0", Judgement{[]float64{0, 0.5}, []float64{0.1, 0.2}, 0, 1}, "probs[0]", RuleProbOpen},
+		{"prob 1", Judgement{[]float64{0.5, 1}, []float64{0.1, 0.2}, 0, 1}, "probs[1]", RuleProbOpen},
+		{"prob order", Judgement{[]float64{0.5, 0.5}, []float64{0.1, 0.2}, 0, 1}, "probs[1]", RuleProbIncreasing},
+		{"value Inf", Judgement{[]float64{0.5, 0.9}, []float64{0.1, inf}, 0, 1}, "values[1]", RuleFinite},
+		{"value at bound", Judgement{[]float64{0.5, 0.9}, []float64{0, 0.2}, 0, 1}, "values[0]", RuleValueInBounds},
+		{"value above", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 1.2}, 0, 1}, "values[1]", RuleValueInBounds},
+		{"value order", Judgement{[]float64{0.5, 0.9}, []float64{0.2, 0.2}, 0, 1}, "values[1]", RuleValueIncreasing},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			checkRule(t, c.j.Validate(), c.field, c.rule)
+			_, err := FitQuantiles(c.j)
+			checkRule(t, err, c.field, c.rule)
+		})
+	}
+}
