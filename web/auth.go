@@ -1,0 +1,204 @@
+package web
+
+import (
+	"context"
+	"crypto/rand"
+	"crypto/sha256"
+	"encoding/base64"
+	"errors"
+	"fmt"
+	"net/http"
+	"time"
+
+	"github.com/go-chi/chi/v5"
+	"golang.org/x/crypto/bcrypt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// TokenBytes is the length of every secret Parley issues — the
+// facilitator's secret, session tokens and experts' link tokens: 32
+// random bytes (256 bits), written as unpadded base64url.
+const TokenBytes = 32
+
+// SessionLifetime is how long a facilitator stays signed in.
+const SessionLifetime = 12 * time.Hour
+
+const sessionCookie = "parley_session"
+
+// bcryptCost is the work factor for the facilitator secret's hash. The
+// secret has 256 bits, so the cost only guards a leaked database file.
+var bcryptCost = bcrypt.DefaultCost
+
+// newToken returns a fresh random token and the SHA-256 of its raw bytes,
+// which is all that is stored.
+func newToken() (token string, hash []byte, err error) {
+	b := make([]byte, TokenBytes)
+	if _, err := rand.Read(b); err != nil {
+		return "", nil, fmt.Errorf("web: random token: %w", err)
+	}
+	sum := sha256.Sum256(b)
+	return base64.RawURLEncoding.EncodeToString(b), sum[:], nil
+}
+
+// tokenHash decodes a token and returns the SHA-256 of its raw bytes. A
+// string that is not a Parley token gives ok false, so lookups of
+// malformed tokens never reach the store.
+func tokenHash(token string) (hash []byte, ok bool) {
+	b, err := base64.RawURLEncoding.DecodeString(token)
+	if err != nil || len(b) != TokenBytes {
+		return nil, false
+	}
+	sum := sha256.Sum256(b)
+	return sum[:], true
+}
+
+// ResetFacilitatorSecret issues a new facilitator secret, stores only its
+// bcrypt hash (ending every open session) and returns the secret, which
+// is shown once and never again.
+func ResetFacilitatorSecret(ctx context.Context, st Store) (string, error) {
+	secret, _, err := newToken()
+	if err != nil {
+		return "", err
+	}
+	hash, err := bcrypt.GenerateFromPassword([]byte(secret), bcryptCost)
+	if err != nil {
+		return "", fmt.Errorf("web: hash facilitator secret: %w", err)
+	}
+	if err := st.SetFacilitatorHash(ctx, hash); err != nil {
+		return "", err
+	}
+	return secret, nil
+}
+
+// EnsureFacilitatorSecret creates the facilitator secret when the
+// database has none. It returns the new secret, or "" when one was
+// already set (its value is unrecoverable; use facilitator-reset).
+func EnsureFacilitatorSecret(ctx context.Context, st Store) (string, error) {
+	h, err := st.FacilitatorHash(ctx)
+	if err != nil {
+		return "", err
+	}
+	if len(h) > 0 {
+		return "", nil
+	}
+	return ResetFacilitatorSecret(ctx, st)
+}
+
+// SignInPath returns the one-time sign-in address for secret. The secret
+// rides in the fragment, which browsers never send to a server or put in
+// a Referer; the sign-in page's script moves it into the form and posts.
+func SignInPath(secret string) string { return "/signin#" + secret }
+
+// checkSecret compares a typed secret with the stored hash.
+func (s *Server) checkSecret(ctx context.Context, secret string) (bool, error) {
+	h, err := s.store.FacilitatorHash(ctx)
+	if err != nil || len(h) == 0 {
+		return false, err
+	}
+	err = bcrypt.CompareHashAndPassword(h, []byte(secret))
+	if errors.Is(err, bcrypt.ErrMismatchedHashAndPassword) {
+		return false, nil
+	}
+	return err == nil, err
+}
+
+// startSession stores a new session and sets its cookie: HttpOnly,
+// SameSite=Strict, Secure when serving TLS, with an expiry.
+func (s *Server) startSession(w http.ResponseWriter, r *http.Request) error {
+	token, hash, err := newToken()
+	if err != nil {
+		return err
+	}
+	expires := s.now().Add(SessionLifetime)
+	if err := s.store.CreateSession(r.Context(), hash, expires); err != nil {
+		return err
+	}
+	http.SetCookie(w, &http.Cookie{
+		Name:     sessionCookie,
+		Value:    token,
+		Path:     "/",
+		Expires:  expires,
+		MaxAge:   int(SessionLifetime / time.Second),
+		HttpOnly: true,
+		Secure:   s.opt.SecureCookies || r.TLS != nil,
+		SameSite: http.SameSiteStrictMode,
+	})
+	return nil
+}
+
+func (s *Server) endSession(w http.ResponseWriter, r *http.Request) {
+	http.SetCookie(w, &http.Cookie{
+		Name: sessionCookie, Value: "", Path: "/", MaxAge: -1,
+		HttpOnly: true, Secure: s.opt.SecureCookies || r.TLS != nil, SameSite: http.SameSiteStrictMode,
+	})
+}
+
+// signedIn reports whether the request carries a valid facilitator session.
+func (s *Server) signedIn(r *http.Request) (bool, error) {
+	c, err := r.Cookie(sessionCookie)
+	if err != nil {
+		return false, nil
+	}
+	hash, ok := tokenHash(c.Value)
+	if !ok {
+		return false, nil
+	}
+	return s.store.SessionValid(r.Context(), hash, s.now())
+}
+
+// requireFacilitator lets signed-in facilitators through. Others are sent
+// to the sign-in page (GET) or refused with 401 (anything else).
+func (s *Server) requireFacilitator(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		ok, err := s.signedIn(r)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		if ok {
+			next.ServeHTTP(w, r)
+			return
+		}
+		if r.Method == http.MethodGet || r.Method == http.MethodHead {
+			http.Redirect(w, r, "/signin", http.StatusSeeOther)
+			return
+		}
+		s.renderPage(w, r, http.StatusUnauthorized, PageMeta{Title: "Sign in first"},
+			messagePage("Sign in first", "This action needs the facilitator to be signed in. Nothing was saved."))
+	})
+}
+
+type expertKey struct{}
+
+// expertFrom returns the expert whose private link the request came
+// through. Only handlers mounted under /e/{token} may call it.
+func expertFrom(ctx context.Context) elicit.Expert {
+	e, _ := ctx.Value(expertKey{}).(elicit.Expert)
+	return e
+}
+
+// requireExpert resolves the {token} in the path to its expert. Unknown,
+// malformed and revoked tokens all get the same bare 404.
+func (s *Server) requireExpert(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		hash, ok := tokenHash(chi.URLParam(r, "token"))
+		if !ok {
+			s.notFound(w, r)
+			return
+		}
+		e, err := s.store.ExpertByToken(r.Context(), hash)
+		if errors.Is(err, elicit.ErrNotFound) || (err == nil && e.Revoked) {
+			s.notFound(w, r)
+			return
+		}
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		next.ServeHTTP(w, r.WithContext(context.WithValue(r.Context(), expertKey{}, e)))
+	})
+}
+
+// expertPath is the private link of the expert holding token.
+func expertPath(token string) string { return "/e/" + token + "/" }

@@ -1,0 +1,73 @@
+package web
+
+import (
+	"net/http"
+	"strconv"
+
+	"github.com/go-chi/chi/v5"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// facilitatorRoutes are the facilitator's pages; routes() mounts them
+// behind requireFacilitator. Every change is a POST.
+func (s *Server) facilitatorRoutes(r chi.Router) {
+	r.Get("/", s.workshopList)
+	r.Post("/workshops", s.createWorkshop)
+}
+
+// workshopListView is the start page: every workshop and the form to
+// create one.
+type workshopListView struct {
+	Workshops []elicit.Workshop
+	Form      *Form
+}
+
+func (s *Server) workshopList(w http.ResponseWriter, r *http.Request) {
+	s.showWorkshopList(w, r, http.StatusOK, newForm(nil))
+}
+
+func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status int, f *Form) {
+	ws, err := s.store.Workshops(r.Context())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	s.renderPage(w, r, status, PageMeta{Title: "Workshops", Facilitator: true, Section: "workshops"},
+		workshopListPage(workshopListView{Workshops: ws, Form: f}))
+}
+
+// createWorkshop validates the new workshop's fields and saves it; bad
+// input shows the form again with the typed values and nothing saved.
+func (s *Server) createWorkshop(w http.ResponseWriter, r *http.Request) {
+	if !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	ws := elicit.Workshop{
+		Title:    f.Text("title", MaxShortText, true),
+		Purpose:  f.Text("purpose", MaxLongText, false),
+		Decision: f.Text("decision", MaxLongText, false),
+		Notes:    f.Text("notes", MaxLongText, false),
+	}
+	if !f.OK() {
+		s.showWorkshopList(w, r, http.StatusUnprocessableEntity, f)
+		return
+	}
+	if err := s.store.CreateWorkshop(r.Context(), &ws); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, workshopPath(ws.ID), http.StatusSeeOther)
+}
+
+// pathID parses the named path parameter as a positive ID; ok is false
+// (and a 404 has been sent) when it is not one.
+func (s *Server) pathID(w http.ResponseWriter, r *http.Request, name string) (int64, bool) {
+	id, err := strconv.ParseInt(chi.URLParam(r, name), 10, 64)
+	if err != nil || id <= 0 {
+		s.notFound(w, r)
+		return 0, false
+	}
+	return id, true
+}

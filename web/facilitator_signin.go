@@ -1,0 +1,41 @@
+package web
+
+import (
+	"net/http"
+)
+
+func (s *Server) signInForm(w http.ResponseWriter, r *http.Request) {
+	s.renderPage(w, r, http.StatusOK, PageMeta{Title: "Sign in", Scripts: []string{"/static/signin.js"}},
+		signInPage(signInView{}))
+}
+
+// signIn checks the posted secret against the stored hash and starts a
+// session. A wrong secret is 401 with the form again.
+func (s *Server) signIn(w http.ResponseWriter, r *http.Request) {
+	if !parseForm(w, r) {
+		return
+	}
+	secret := r.PostForm.Get("secret")
+	ok := false
+	if h, valid := tokenHash(secret); valid && h != nil {
+		var err error
+		if ok, err = s.checkSecret(r.Context(), secret); err != nil {
+			s.fail(w, r, err)
+			return
+		}
+	}
+	if !ok {
+		s.renderPage(w, r, http.StatusUnauthorized, PageMeta{Title: "Sign in"}, signInPage(signInView{Failed: true}))
+		return
+	}
+	if err := s.startSession(w, r); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, "/", http.StatusSeeOther)
+}
+
+func (s *Server) signOut(w http.ResponseWriter, r *http.Request) {
+	s.endSession(w, r)
+	http.Redirect(w, r, "/signin", http.StatusSeeOther)
+}

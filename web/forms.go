@@ -1,0 +1,282 @@
+package web
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"net/url"
+	"regexp"
+	"strconv"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// This file is the one path by which typed form input becomes values:
+// every number and every text field of every form goes through it, so the
+// rules in DEVELOPERS.md hold everywhere.
+
+// Rules of form input, beside elicit's own.
+const (
+	RuleNumberSyntax elicit.Rule = "must be a plain decimal number such as 0.25 or 2.5e-3 (a point for decimals, no thousands separators)"
+	RuleTextValid    elicit.Rule = "must be plain text (no control characters)"
+	RuleChoice       elicit.Rule = "must be one of the offered choices"
+)
+
+// Text field limits, in characters.
+const (
+	MaxShortText = 200  // names, titles, units
+	MaxLongText  = 4000 // wording, purpose, notes, reasons, rationales
+	MaxListItems = 40   // numbers in one list field
+)
+
+// plainNumber is the only number syntax accepted: optional sign, decimal
+// digits with at most one point, optional exponent. It excludes NaN, Inf,
+// hex, underscores, thousands separators and a decimal comma, all of which
+// strconv.ParseFloat would take or half-take.
+var plainNumber = regexp.MustCompile(`^[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?$`)
+
+// parseFloatField parses raw as a finite number for the named field.
+// Surrounding spaces are ignored; anything else that is not a plain
+// decimal number is an *elicit.InputError naming the field: RuleRequired
+// when empty, RuleNumberSyntax for bad syntax, RuleFinite when out of the
+// float64 range.
+func parseFloatField(name, raw string) (float64, error) {
+	s := strings.TrimSpace(raw)
+	if s == "" {
+		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
+	}
+	if len(s) > 64 || !plainNumber.MatchString(s) {
+		return 0, &elicit.InputError{Field: name, Rule: RuleNumberSyntax, Detail: fmt.Sprintf("got %q", clip(s, 24))}
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %q", clip(s, 24))}
+	}
+	return v, nil
+}
+
+// parseIntField parses raw as a whole number in [min, max].
+func parseIntField(name, raw string, min, max int) (int, error) {
+	s := strings.TrimSpace(raw)
+	if s == "" {
+		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
+	}
+	if len(s) > 12 || strings.TrimLeft(s, "0123456789") != "" {
+		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleInteger, Detail: fmt.Sprintf("got %q", clip(s, 24))}
+	}
+	n, err := strconv.Atoi(s)
+	if err != nil || n < min || n > max {
+		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, clip(s, 24))}
+	}
+	return n, nil
+}
+
+// parseFloatList parses a list of numbers separated by spaces, commas or
+// semicolons, each by parseFloatField's rule. Item i is reported as
+// name[i].
+func parseFloatList(name, raw string) ([]float64, error) {
+	items := strings.FieldsFunc(raw, func(r rune) bool { return r == ',' || r == ';' || unicode.IsSpace(r) })
+	if len(items) == 0 {
+		return nil, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
+	}
+	if len(items) > MaxListItems {
+		return nil, &elicit.InputError{Field: name, Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d numbers, got %d", MaxListItems, len(items))}
+	}
+	out := make([]float64, len(items))
+	for i, it := range items {
+		v, err := parseFloatField(fmt.Sprintf("%s[%d]", name, i), it)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = v
+	}
+	return out, nil
+}
+
+// parseTextField trims raw and checks it is valid UTF-8 without control
+// characters (newlines and tabs are allowed), at most max characters, and
+// present when required.
+func parseTextField(name, raw string, max int, required bool) (string, error) {
+	s := strings.TrimSpace(raw)
+	if !utf8.ValidString(s) {
+		return "", &elicit.InputError{Field: name, Rule: RuleTextValid, Detail: "not UTF-8"}
+	}
+	for _, r := range s {
+		if unicode.IsControl(r) && r != '\n' && r != '\r' && r != '\t' {
+			return "", &elicit.InputError{Field: name, Rule: RuleTextValid, Detail: fmt.Sprintf("character %U", r)}
+		}
+	}
+	if required && s == "" {
+		return "", &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
+	}
+	if n := utf8.RuneCountInString(s); n > max {
+		return "", &elicit.InputError{Field: name, Rule: elicit.RuleTooLong, Detail: fmt.Sprintf("at most %d characters, got %d", max, n)}
+	}
+	return s, nil
+}
+
+func clip(s string, n int) string {
+	if utf8.RuneCountInString(s) <= n {
+		return s
+	}
+	return string([]rune(s)[:n]) + "…"
+}
+
+// FormErrors maps a form field's name to the message shown beside it.
+// The key "" holds a message about the form as a whole.
+type FormErrors map[string]string
+
+// Form is a submitted form: the values as typed, so the page can show
+// them again, and the error found for each field.
+type Form struct {
+	Values url.Values
+	Errors FormErrors
+}
+
+// newForm wraps already-parsed values (see parseForm).
+func newForm(v url.Values) *Form {
+	if v == nil {
+		v = url.Values{}
+	}
+	return &Form{Values: v, Errors: FormErrors{}}
+}
+
+// Value is the field's value as typed.
+func (f *Form) Value(name string) string {
+	if f == nil {
+		return ""
+	}
+	return f.Values.Get(name)
+}
+
+// Error is the message beside the field, or "".
+func (f *Form) Error(name string) string {
+	if f == nil {
+		return ""
+	}
+	return f.Errors[name]
+}
+
+// OK reports whether no field has an error.
+func (f *Form) OK() bool { return f == nil || len(f.Errors) == 0 }
+
+// Checked reports whether a checkbox field was ticked.
+func (f *Form) Checked(name string) bool {
+	v := f.Value(name)
+	return v == "on" || v == "true" || v == "1" || v == "yes"
+}
+
+// Fail records err beside the field it names. An *elicit.InputError is
+// matched to a form field by its name, then its name without an index
+// ("values[2]" → "values"), then through aliases (elicit's field name →
+// the form's); anything else lands on the form as a whole. Only the first
+// error per field is kept.
+func (f *Form) Fail(err error, aliases map[string]string) {
+	if err == nil {
+		return
+	}
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		f.set("", err.Error())
+		return
+	}
+	msg := string(ie.Rule) + detailSuffix(ie.Detail)
+	for _, name := range fieldCandidates(ie.Field, aliases) {
+		if _, typed := f.Values[name]; typed {
+			f.set(name, msg)
+			return
+		}
+	}
+	f.set("", ie.Field+": "+msg)
+}
+
+func fieldCandidates(field string, aliases map[string]string) []string {
+	c := []string{field}
+	base := field
+	if i := strings.IndexByte(field, '['); i > 0 {
+		base = field[:i]
+		c = append(c, base)
+	}
+	if a, ok := aliases[field]; ok {
+		c = append(c, a)
+	}
+	if a, ok := aliases[base]; ok {
+		c = append(c, a)
+	}
+	return c
+}
+
+// failField records a parse error beside the named field.
+func (f *Form) failField(name string, err error) {
+	var ie *elicit.InputError
+	switch {
+	case err == nil:
+	case errors.As(err, &ie):
+		f.set(name, string(ie.Rule)+detailSuffix(ie.Detail))
+	default:
+		f.set(name, err.Error())
+	}
+}
+
+func (f *Form) set(name, msg string) {
+	if _, dup := f.Errors[name]; !dup {
+		f.Errors[name] = msg
+	}
+}
+
+// Float parses a required number field, recording any error.
+func (f *Form) Float(name string) float64 {
+	v, err := parseFloatField(name, f.Value(name))
+	f.failField(name, err)
+	return v
+}
+
+// OptionalFloat parses a number field that may be left empty.
+func (f *Form) OptionalFloat(name string) (float64, bool) {
+	if strings.TrimSpace(f.Value(name)) == "" {
+		return 0, false
+	}
+	v, err := parseFloatField(name, f.Value(name))
+	f.failField(name, err)
+	return v, err == nil
+}
+
+// Int parses a required whole-number field in [min, max].
+func (f *Form) Int(name string, min, max int) int {
+	v, err := parseIntField(name, f.Value(name), min, max)
+	f.failField(name, err)
+	return v
+}
+
+// FloatList parses a required list-of-numbers field.
+func (f *Form) FloatList(name string) []float64 {
+	v, err := parseFloatList(name, f.Value(name))
+	f.failField(name, err)
+	return v
+}
+
+// Text parses a text field with the given limit.
+func (f *Form) Text(name string, max int, required bool) string {
+	v, err := parseTextField(name, f.Value(name), max, required)
+	f.failField(name, err)
+	return v
+}
+
+// Choice returns the field's value if it is one of choices; otherwise it
+// records RuleChoice. An empty value gives def when def is not "".
+func (f *Form) Choice(name, def string, choices ...string) string {
+	v := strings.TrimSpace(f.Value(name))
+	if v == "" && def != "" {
+		return def
+	}
+	for _, c := range choices {
+		if v == c {
+			return v
+		}
+	}
+	f.set(name, string(RuleChoice))
+	return ""
+}

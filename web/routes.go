@@ -1,0 +1,58 @@
+package web
+
+import (
+	"embed"
+	"io/fs"
+	"net/http"
+
+	"github.com/go-chi/chi/v5"
+	"github.com/go-chi/chi/v5/middleware"
+)
+
+// static holds every file in web/static: stylesheets, the chart styles
+// and the small same-origin scripts.
+//
+//go:embed static
+var static embed.FS
+
+// routes builds the whole URL space.
+//
+//	GET  /static/*            embedded assets
+//	GET  /signin              sign-in form (the one-time address carries the secret in #fragment)
+//	POST /signin              check the secret, start a session
+//	POST /signout             end the session
+//	/e/{token}/...            an expert's private pages (expert.go), token resolved by requireExpert
+//	everything else           the facilitator's pages (facilitator*.go), behind requireFacilitator
+func (s *Server) routes() http.Handler {
+	r := chi.NewRouter()
+	r.Use(middleware.Recoverer, securityHeaders, limitBody, crossOrigin)
+	r.NotFound(s.notFound)
+	r.MethodNotAllowed(func(w http.ResponseWriter, r *http.Request) {
+		s.renderPage(w, r, http.StatusMethodNotAllowed, PageMeta{Title: "Not allowed"},
+			messagePage("Not allowed", "This address does not accept that kind of request. Changes are only made by the forms on Parley's pages."))
+	})
+
+	sub, err := fs.Sub(static, "static")
+	if err != nil {
+		panic(err) // the embed pattern above guarantees the directory
+	}
+	r.Handle("/static/*", http.StripPrefix("/static/", http.FileServerFS(sub)))
+
+	r.Get("/signin", s.signInForm)
+	r.Post("/signin", s.signIn)
+	r.Post("/signout", s.signOut)
+
+	r.Route("/e/{token}", func(r chi.Router) {
+		r.Use(s.requireExpert)
+		// expert.go (the expert's pages) adds its routes here.
+		if er, ok := any(s).(interface{ expertRoutes(chi.Router) }); ok {
+			er.expertRoutes(r)
+		}
+	})
+
+	r.Group(func(r chi.Router) {
+		r.Use(s.requireFacilitator)
+		s.facilitatorRoutes(r)
+	})
+	return r
+}
