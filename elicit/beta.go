@@ -70,17 +70,19 @@ func (d Beta) Quantile(p float64) float64 {
 	case p >= 1:
 		return 1
 	}
-	return d.polishQuantile(p, d.dist().Quantile(p))
+	x, _ := d.polishQuantile(p, d.dist().Quantile(p), 3)
+	return x
 }
 
-// polishQuantile refines an approximate quantile x by up to three Newton
+// polishQuantile refines an approximate quantile x by up to steps Newton
 // steps x ← x − (F(x) − p)/f(x) on gonum's CDF and density, keeping a step
 // only while it shrinks the residual. For p > 0.5 the residual is taken on
 // the upper tail, (1−p) − S(x), where it keeps its relative precision.
 // Why: against R's qbeta (testdata/r/beta_reference.csv) gonum's inverse
 // alone is off by about 1e-9 relative in the far upper tail of extreme
-// shapes, e.g. Beta(0.2, 1000) at p = 0.999999.
-func (d Beta) polishQuantile(p, x float64) float64 {
+// shapes, e.g. Beta(0.2, 1000) at p = 0.999999. It returns the refined x
+// and its residual F(x) − p.
+func (d Beta) polishQuantile(p, x float64, steps int) (float64, float64) {
 	g := d.dist()
 	resid := func(x float64) float64 {
 		if p <= 0.5 {
@@ -89,7 +91,7 @@ func (d Beta) polishQuantile(p, x float64) float64 {
 		return (1 - p) - g.Survival(x)
 	}
 	r := resid(x)
-	for i := 0; i < 3 && r != 0; i++ {
+	for i := 0; i < steps && r != 0; i++ {
 		f := g.Prob(x)
 		if !(f > 0) || math.IsInf(f, 0) {
 			break
@@ -104,7 +106,7 @@ func (d Beta) polishQuantile(p, x float64) float64 {
 		}
 		x, r = y, ry
 	}
-	return x
+	return x, r
 }
 
 // Mean is α/(α+β).
