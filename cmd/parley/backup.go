@@ -1,0 +1,72 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+
+	"github.com/parley-elicit/parley/store"
+)
+
+func init() {
+	command("backup", "copy the database consistently, even while the server runs (--db, --out)", runBackup)
+}
+
+func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("backup", stderr)
+	dbPath := fs.String("db", "", "database `file` to copy")
+	out := fs.String("out", "", "new `file` for the copy; must not exist")
+	if err := fs.Parse(args); err != nil {
+		return exitBadInput
+	}
+	if *out == "" {
+		return fail(stderr, "backup", badInput("out", "a file for the copy is required"))
+	}
+	if _, err := os.Lstat(*out); err == nil {
+		return fail(stderr, "backup", badInput("out", "%s already exists; backup never overwrites", *out))
+	}
+	db, err := openExisting(*dbPath)
+	if err != nil {
+		return fail(stderr, "backup", err)
+	}
+	defer db.Close()
+	ctx := context.Background()
+	if err := db.Backup(ctx, *out); err != nil {
+		return fail(stderr, "backup", err)
+	}
+	verdict, err := checkCopy(ctx, *out)
+	if err != nil {
+		return fail(stderr, "backup", err)
+	}
+	if verdict != "ok" {
+		return fail(stderr, "backup", fmt.Errorf("the copy %s fails its integrity check: %s", *out, verdict))
+	}
+	fmt.Fprintf(stdout, "backup written to %s (integrity check ok)\n", *out)
+	return exitOK
+}
+
+func checkCopy(ctx context.Context, path string) (string, error) {
+	cp, err := store.Open(path)
+	if err != nil {
+		return "", err
+	}
+	defer cp.Close()
+	return cp.IntegrityCheck(ctx)
+}
+
+// openExisting opens a database that must already exist; store.Open
+// would otherwise create an empty one at a mistyped path.
+func openExisting(path string) (*store.DB, error) {
+	if path == "" {
+		return nil, badInput("db", "a database file is required")
+	}
+	if _, err := os.Stat(path); err != nil {
+		return nil, badInput("db", "%v", err)
+	}
+	db, err := store.Open(path)
+	if err != nil {
+		return nil, fmt.Errorf("open %s: %w", path, err)
+	}
+	return db, nil
+}
