@@ -14,6 +14,16 @@ import (
 func (s *Server) facilitatorRoutes(r chi.Router) {
 	r.Get("/", s.workshopList)
 	r.Post("/workshops", s.createWorkshop)
+	r.Route("/w/{workshop}", func(r chi.Router) {
+		r.Get("/", s.workshopOverview)
+		r.Get("/questions/new", s.newQuestionForm)
+		r.Post("/questions", s.addQuestion)
+		r.Post("/experts", s.addExpert)
+		r.Post("/experts/{expert}/revoke", s.revokeExpert)
+		r.Post("/experts/{expert}/reissue", s.reissueLink)
+		r.Post("/round", s.changeRound)
+		r.Get("/log", s.eventLog)
+	})
 }
 
 // workshopListView is the start page: every workshop and the form to
