@@ -75,6 +75,7 @@ type answerForm struct {
 	Reason      string
 	ReasonError string
 	Error       string // a message not tied to one field
+	Invalid     bool   // some field has a message
 	Chips       int    // chips to place, FormatChips
 }
 
