@@ -31,7 +31,7 @@ type panel struct {
 	experts []elicit.Expert
 }
 
-func seed(t *testing.T, db *DB) panel {
+func seed(t testing.TB, db *DB) panel {
 	t.Helper()
 	ctx := context.Background()
 	p := panel{w: elicit.Workshop{
