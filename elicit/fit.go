@@ -169,6 +169,13 @@ const (
 	// exactTol is the largest probability error of an exactly determined
 	// (two-pair) fit after the root-finding polish.
 	exactTol = 1e-12
+	// exactAccept is the largest probability error at which a two-pair
+	// fit counts as exact; the polish aims at exactTol but rounding in
+	// the CDF at extreme shapes can leave a little more.
+	exactAccept = 1e-10
+	// edgeMargin: a fit within this distance (in log α or log β) of the
+	// search limits is refused as running off to α, β → 0 or ∞.
+	edgeMargin = 1.0
 	// fdStep is the forward-difference step in log α and log β.
 	fdStep = 1e-7
 )
@@ -191,6 +198,14 @@ func fitCumulative(u, p []float64) (d Beta, sse float64, resid []float64, err er
 	if math.IsNaN(bestF) || math.IsInf(bestF, 0) || d.Validate() != nil {
 		return Beta{}, 0, nil, fmt.Errorf("%w: alpha %v, beta %v, objective %v", ErrFitFailed, d.Alpha, d.Beta, bestF)
 	}
+	for _, t := range best {
+		if t < logParamMin+edgeMargin || t > logParamMax-edgeMargin {
+			return Beta{}, 0, nil, fmt.Errorf("%w: the best fit runs to the edge of the search (alpha %.3g, beta %.3g): no Beta with alpha and beta between 1e-6 and 1e9 fits these answers", ErrFitFailed, d.Alpha, d.Beta)
+		}
+	}
+	if q.exactlyDetermined() && !(q.maxAbsResid(best[:]) <= exactAccept) {
+		return Beta{}, 0, nil, fmt.Errorf("%w: no Beta with alpha and beta between 1e-6 and 1e9 matches both stated pairs exactly (closest misses by %.3g)", ErrFitFailed, q.maxAbsResid(best[:]))
+	}
 	q.at(best[:])
 	return d, bestF, append([]float64(nil), q.r...), nil
 }
@@ -212,7 +227,7 @@ func (q *lsq) fitFrom(th0 [2]float64) ([2]float64, float64) {
 // against the full grid search on random judgements (TestFitFastPath).
 func (q *lsq) acceptable(th [2]float64) bool {
 	if q.exactlyDetermined() {
-		return q.maxAbsResid(th[:]) <= exactTol
+		return q.maxAbsResid(th[:]) <= exactAccept
 	}
 	return q.maxAbsResid(th[:]) <= closeFit
 }

@@ -1,0 +1,152 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+	"strings"
+)
+
+// Rules of question definitions and answers.
+const (
+	RuleQuantileFormat Rule = "format does not give quantile judgements"
+	RuleChipsExceeded  Rule = "more chips placed than the question allows"
+)
+
+// Probability sets a facilitator can ask for in FormatQuantiles. They are
+// shared values: copy before changing.
+var (
+	// ProbsDefault asks for the 5th, 50th and 95th percentiles.
+	ProbsDefault = []float64{0.05, 0.5, 0.95}
+	// ProbsQuartiles asks for the lower quartile, median and upper quartile.
+	ProbsQuartiles = []float64{0.25, 0.5, 0.75}
+	// ProbsTertiles asks for the tertiles, 1/3 and 2/3, with the median
+	// between them, so that the expert states a central value as well as
+	// three equally likely ranges.
+	ProbsTertiles = []float64{1.0 / 3, 0.5, 2.0 / 3}
+)
+
+// Limits on a question's definition.
+const (
+	MaxWordingLen  = 2000 // bytes
+	MaxQuantityLen = 200
+	MaxUnitsLen    = 100
+	MaxChips       = 1000
+)
+
+// Validate checks a question's definition and returns the first broken
+// rule as an *InputError: wording and quantity present and not too long;
+// bounds finite and ordered; a known format; for FormatQuantiles,
+// MinPairs to MaxPairs probabilities passing CheckProbs; for FormatChips,
+// MinBins to MaxBins bins whose edges strictly increase from Lower to
+// Upper and between MinChipBins and MaxChips chips; a true value, if set,
+// finite and strictly inside (Lower, Upper).
+func (q Question) Validate() error {
+	for _, t := range []struct {
+		field, v string
+		max      int
+		required bool
+	}{
+		{"wording", q.Wording, MaxWordingLen, true},
+		{"quantity", q.Quantity, MaxQuantityLen, true},
+		{"units", q.Units, MaxUnitsLen, false},
+	} {
+		if t.required && strings.TrimSpace(t.v) == "" {
+			return inputErr(t.field, RuleRequired, "")
+		}
+		if len(t.v) > t.max {
+			return inputErr(t.field, RuleTooLong, "%d bytes, at most %d", len(t.v), t.max)
+		}
+	}
+	if err := checkBounds(q.Lower, q.Upper); err != nil {
+		return err
+	}
+	switch q.Format {
+	case FormatQuantiles:
+		if n := len(q.Probs); n < MinPairs || n > MaxPairs {
+			return inputErr("probs", RuleCount, "need %d to %d probabilities, got %d", MinPairs, MaxPairs, n)
+		}
+		if err := CheckProbs("probs", q.Probs); err != nil {
+			return err
+		}
+	case FormatInterval:
+	case FormatChips:
+		if err := checkEdges("bin_edges", q.BinEdges); err != nil {
+			return err
+		}
+		last := len(q.BinEdges) - 1
+		if q.BinEdges[0] != q.Lower {
+			return inputErr("bin_edges[0]", RuleEdgesSpanBounds, "first edge %v, lower %v", q.BinEdges[0], q.Lower)
+		}
+		if q.BinEdges[last] != q.Upper {
+			return inputErr(fmt.Sprintf("bin_edges[%d]", last), RuleEdgesSpanBounds, "last edge %v, upper %v", q.BinEdges[last], q.Upper)
+		}
+		if q.Chips < MinChipBins || q.Chips > MaxChips {
+			return inputErr("chips", RuleCountRange, "need %d to %d chips, got %d", MinChipBins, MaxChips, q.Chips)
+		}
+	default:
+		return inputErr("format", RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
+	}
+	if t := q.TrueValue; t != nil {
+		if math.IsNaN(*t) || math.IsInf(*t, 0) {
+			return inputErr("true_value", RuleFinite, "got %v", *t)
+		}
+		if !(*t > q.Lower && *t < q.Upper) {
+			return inputErr("true_value", RuleValueInBounds, "%v not inside (%v, %v)", *t, q.Lower, q.Upper)
+		}
+	}
+	return nil
+}
+
+// Judgement turns an answer in a quantile format into the judgement it
+// states: FormatQuantiles gives P(X ≤ Values[i]) = Probs[i]; FormatInterval
+// goes through FourValue. FormatChips is not a quantile judgement and is
+// refused with RuleQuantileFormat; use Fit.
+func (q Question) Judgement(a Answer) (Judgement, error) {
+	if err := q.Validate(); err != nil {
+		return Judgement{}, err
+	}
+	switch q.Format {
+	case FormatQuantiles:
+		if len(a.Values) != len(q.Probs) {
+			return Judgement{}, inputErr("values", RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+		}
+		j := Judgement{
+			Probs:  append([]float64(nil), q.Probs...),
+			Values: append([]float64(nil), a.Values...),
+			Lower:  q.Lower,
+			Upper:  q.Upper,
+		}
+		return j, j.Validate()
+	case FormatInterval:
+		return FourValue(a.Lowest, a.Highest, a.Best, a.Confidence, q.Lower, q.Upper)
+	}
+	return Judgement{}, inputErr("format", RuleQuantileFormat, "%q", q.Format)
+}
+
+// Fit turns an expert's answer, in the question's format, into a fitted
+// Beta on [Lower, Upper]: quantile and interval answers through Judgement
+// and FitQuantiles, chips through FitChips (at most q.Chips chips may be
+// placed). Errors name the answer's field, e.g. "values[1]", "lowest",
+// "confidence" or "counts[2]".
+func (q Question) Fit(a Answer) (Fit, error) {
+	if q.Format == FormatChips {
+		if err := q.Validate(); err != nil {
+			return Fit{}, err
+		}
+		total := 0
+		for _, c := range a.Counts {
+			if c > 0 {
+				if c > q.Chips-total {
+					return Fit{}, inputErr("counts", RuleChipsExceeded, "more than %d placed", q.Chips)
+				}
+				total += c
+			}
+		}
+		return FitChips(q.BinEdges, a.Counts)
+	}
+	j, err := q.Judgement(a)
+	if err != nil {
+		return Fit{}, err
+	}
+	return FitQuantiles(j)
+}

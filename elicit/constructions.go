@@ -1,0 +1,247 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Rules of the quick constructions and the chips format.
+const (
+	RuleBelowTrials      Rule = "successes must be fewer than trials"
+	RuleCountsNotAllZero Rule = "at least one chip must be placed"
+	RuleChipsSpread      Rule = "chips must be in at least three bins"
+	RuleEdgesSpanBounds  Rule = "bin edges must run from lower to upper"
+)
+
+// Limits of the chips-in-bins format.
+const (
+	// MinBins is the fewest bins a chips histogram may have. With fewer
+	// than three bins there are fewer than two interior edges, and two
+	// cumulative fractions are needed to pin down α and β.
+	MinBins = 3
+	// MaxBins is the most bins a chips histogram may have.
+	MaxBins = 20
+	// MinChipBins is the fewest bins that must hold chips. With chips in
+	// only one or two bins, least squares on the cumulative fractions is
+	// driven towards α+β → ∞ (all mass inside the occupied bins) or
+	// α, β → 0, and no finite Beta is the answer.
+	MinChipBins = 3
+	// maxBinCount bounds one bin's count so that totals cannot overflow.
+	maxBinCount = 1_000_000_000
+)
+
+// Uniform is Beta(1, 1), the uniform distribution on [0, 1]: every value
+// of the proportion equally likely (Bayes 1763, Laplace 1774; see Gelman
+// et al. 2013, "Bayesian Data Analysis", 3rd ed., §2.4).
+func Uniform() Beta { return Beta{Alpha: 1, Beta: 1} }
+
+// EquivalentSample is the prior worth n imagined trials of which s were
+// successes, under the convention Beta(s, n−s): its mean is s/n and its
+// effective sample size α+β is n (the ESS of a Beta prior; Morita, Thall &
+// Müller 2008, "Determining the effective sample size of a parametric
+// prior", Biometrics 64(2)). It needs 0 < s < n; s and n need not be
+// whole numbers.
+//
+// The other common convention, Beta(s+1, n−s+1) — the posterior after
+// observing s of n starting from Uniform — is Beta(s+1, n−s+1) =
+// EquivalentSample(s+1, n+2).
+func EquivalentSample(s, n float64) (Beta, error) {
+	if err := checkPositive("successes", s); err != nil {
+		return Beta{}, err
+	}
+	if err := checkPositive("trials", n); err != nil {
+		return Beta{}, err
+	}
+	if !(s < n) {
+		return Beta{}, inputErr("successes", RuleBelowTrials, "%v successes in %v trials", s, n)
+	}
+	return NewBeta(s, n-s)
+}
+
+// FromMeanSD is the Beta with mean m and standard deviation sd by the
+// method of moments: with v = sd²,
+//
+//	α = m (m(1−m)/v − 1),  β = (1−m) (m(1−m)/v − 1),
+//
+// which needs 0 < m < 1 and the feasibility rule v < m(1−m), since every
+// distribution on [0, 1] with mean m has variance at most m(1−m)
+// (Johnson, Kotz & Balakrishnan 1995, "Continuous Univariate
+// Distributions", vol. 2, ch. 25, moment estimators).
+func FromMeanSD(m, sd float64) (Beta, error) {
+	if math.IsNaN(m) || math.IsInf(m, 0) {
+		return Beta{}, inputErr("mean", RuleFinite, "got %v", m)
+	}
+	if !(m > 0 && m < 1) {
+		return Beta{}, inputErr("mean", RuleProbOpen, "got %v", m)
+	}
+	if err := checkPositive("sd", sd); err != nil {
+		return Beta{}, err
+	}
+	v := sd * sd
+	if !(v > 0) {
+		return Beta{}, inputErr("sd", RulePositive, "sd %v squared underflows to 0", sd)
+	}
+	if !(v < m*(1-m)) {
+		return Beta{}, inputErr("sd", RuleVarianceFeasible, "variance %v, m(1-m) = %v", v, m*(1-m))
+	}
+	k := m*(1-m)/v - 1
+	return NewBeta(m*k, (1-m)*k)
+}
+
+// FromInterval is the Beta whose central interval [low, high] on [0, 1]
+// has the stated coverage, by a normal approximation: the mean is the
+// midpoint, m = (low+high)/2, and the standard deviation is
+// sd = (high−low)/2 / z, z = Φ⁻¹((1+coverage)/2) (so z ≈ 1.96 for 95%);
+// then FromMeanSD. The approximation is good when the Beta is nearly
+// symmetric; for skewed intervals fit the quantiles with FitQuantiles.
+func FromInterval(low, high, coverage float64) (Beta, error) {
+	for _, c := range []struct {
+		field string
+		v     float64
+	}{{"low", low}, {"high", high}, {"coverage", coverage}} {
+		if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
+			return Beta{}, inputErr(c.field, RuleFinite, "got %v", c.v)
+		}
+	}
+	if !(coverage > 0 && coverage < 1) {
+		return Beta{}, inputErr("coverage", RuleProbOpen, "got %v", coverage)
+	}
+	if !(low > 0 && low < 1) {
+		return Beta{}, inputErr("low", RuleValueInBounds, "%v not inside (0, 1)", low)
+	}
+	if !(high > 0 && high < 1) {
+		return Beta{}, inputErr("high", RuleValueInBounds, "%v not inside (0, 1)", high)
+	}
+	if !(low < high) {
+		return Beta{}, inputErr("high", RuleValueIncreasing, "%v after %v", high, low)
+	}
+	z := distuv.UnitNormal.Quantile((1 + coverage) / 2)
+	d, err := FromMeanSD((low+high)/2, (high-low)/2/z)
+	if ie, ok := err.(*InputError); ok && ie.Rule == RuleVarianceFeasible {
+		return Beta{}, inputErr("high", RuleVarianceFeasible,
+			"the interval [%v, %v] is too wide for a %v%% central interval of a Beta", low, high, 100*coverage)
+	}
+	return d, err
+}
+
+// FourValue turns the four-value interval format — the lowest and highest
+// plausible values, a best estimate, and the expert's confidence c that
+// the truth lies between lowest and highest (Speirs-Bridge et al. 2010,
+// "Reducing overconfidence in the interval judgments of experts", Risk
+// Analysis 30(3)) — into quantile judgements on (lower, upper):
+//
+//	lowest at (1−c)/2,  best at 0.5,  highest at (1+c)/2.
+//
+// Convention: the best estimate is read as the median and the interval as
+// a central one, with (1−c)/2 of the probability in each tail. It checks
+// lowest < best < highest, all strictly inside (lower, upper), and c in
+// (0, 1).
+func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgement, error) {
+	if err := checkBounds(lower, upper); err != nil {
+		return Judgement{}, err
+	}
+	for _, c := range []struct {
+		field string
+		v     float64
+	}{{"lowest", lowest}, {"best", best}, {"highest", highest}} {
+		if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
+			return Judgement{}, inputErr(c.field, RuleFinite, "got %v", c.v)
+		}
+		if !(c.v > lower && c.v < upper) {
+			return Judgement{}, inputErr(c.field, RuleValueInBounds, "%v not inside (%v, %v)", c.v, lower, upper)
+		}
+	}
+	if !(best > lowest) {
+		return Judgement{}, inputErr("best", RuleValueIncreasing, "best %v not above lowest %v", best, lowest)
+	}
+	if !(highest > best) {
+		return Judgement{}, inputErr("highest", RuleValueIncreasing, "highest %v not above best %v", highest, best)
+	}
+	if math.IsNaN(confidence) || math.IsInf(confidence, 0) {
+		return Judgement{}, inputErr("confidence", RuleFinite, "got %v", confidence)
+	}
+	if !(confidence > 0 && confidence < 1) {
+		return Judgement{}, inputErr("confidence", RuleProbOpen, "got %v", confidence)
+	}
+	pl, ph := (1-confidence)/2, (1+confidence)/2
+	if !(pl < 0.5 && ph > 0.5 && ph < 1) {
+		return Judgement{}, inputErr("confidence", RuleProbOpen, "%v is too close to 0 or 1 to give distinct tail probabilities", confidence)
+	}
+	j := Judgement{Probs: []float64{pl, 0.5, ph}, Values: []float64{lowest, best, highest}, Lower: lower, Upper: upper}
+	return j, j.Validate()
+}
+
+// FitChips fits a Beta to a chips-in-bins histogram (trial roulette: Gore
+// 1987, "Biostatistics and the Medical Research Council", MRC News;
+// Johnson et al. 2010, "Methods to elicit beliefs for Bayesian priors: a
+// systematic review", J. Clin. Epidemiol. 63(4)). The bins are
+// [edges[i], edges[i+1]]; the Beta lives on [edges[0], edges[last]]. The
+// fit is least squares on the cumulative chip fractions at the interior
+// edges: minimise Σᵢ (F(edges[i]) − Σ_{k<i} counts[k] / total)² over
+// i = 1..bins−1, with the same search as FitQuantiles.
+//
+// Rules, each an *InputError naming its field: MinBins to MaxBins bins;
+// edges finite and strictly increasing; one count per bin, none negative,
+// not all zero, and chips in at least MinChipBins bins.
+func FitChips(edges []float64, counts []int) (Fit, error) {
+	if err := checkEdges("edges", edges); err != nil {
+		return Fit{}, err
+	}
+	if len(counts) != len(edges)-1 {
+		return Fit{}, inputErr("counts", RuleLengthMatch, "%d bins, %d counts", len(edges)-1, len(counts))
+	}
+	total, used := 0, 0
+	for i, c := range counts {
+		if c < 0 {
+			return Fit{}, inputErr(fmt.Sprintf("counts[%d]", i), RuleNonNegative, "got %d", c)
+		}
+		if c > maxBinCount {
+			return Fit{}, inputErr(fmt.Sprintf("counts[%d]", i), RuleCountRange, "%d chips, at most %d per bin", c, maxBinCount)
+		}
+		total += c
+		if c > 0 {
+			used++
+		}
+	}
+	if total == 0 {
+		return Fit{}, inputErr("counts", RuleCountsNotAllZero, "")
+	}
+	if used < MinChipBins {
+		return Fit{}, inputErr("counts", RuleChipsSpread, "chips in %d bins", used)
+	}
+	lower, upper := edges[0], edges[len(edges)-1]
+	inner := edges[1 : len(edges)-1]
+	u := make([]float64, len(inner))
+	p := make([]float64, len(inner))
+	cum := 0
+	for i, e := range inner {
+		u[i] = (e - lower) / (upper - lower)
+		cum += counts[i]
+		p[i] = float64(cum) / float64(total)
+	}
+	d, sse, resid, err := fitCumulative(u, p)
+	if err != nil {
+		return Fit{}, err
+	}
+	return newFit(ScaledBeta{Beta: d, Lower: lower, Upper: upper}, p, inner, sse, resid), nil
+}
+
+// checkEdges checks bin edges: MinBins to MaxBins bins, finite and
+// strictly increasing.
+func checkEdges(field string, edges []float64) error {
+	if bins := len(edges) - 1; bins < MinBins || bins > MaxBins {
+		return inputErr(field, RuleCount, "need %d to %d bins (%d to %d edges), got %d edges", MinBins, MaxBins, MinBins+1, MaxBins+1, len(edges))
+	}
+	for i, e := range edges {
+		f := fmt.Sprintf("%s[%d]", field, i)
+		if math.IsNaN(e) || math.IsInf(e, 0) {
+			return inputErr(f, RuleFinite, "got %v", e)
+		}
+		if i > 0 && !(e > edges[i-1]) {
+			return inputErr(f, RuleValueIncreasing, "%v after %v", e, edges[i-1])
+		}
+	}
+	return nil
+}
