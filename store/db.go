@@ -93,6 +93,13 @@ func (db *DB) Close() error {
 // Path is the database file's path.
 func (db *DB) Path() string { return db.path }
 
+// querier is what reads need: the reader pool, or one transaction when
+// several reads must see the same snapshot.
+type querier interface {
+	QueryContext(ctx context.Context, query string, args ...any) (*sql.Rows, error)
+	QueryRowContext(ctx context.Context, query string, args ...any) *sql.Row
+}
+
 // write runs fn in one IMMEDIATE transaction on the writer, committing
 // when fn returns nil and rolling back otherwise.
 func (db *DB) write(ctx context.Context, fn func(tx *sql.Tx) error) error {

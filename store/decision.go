@@ -94,13 +94,17 @@ func sortedExperts(m map[int64]float64) []int64 {
 // Weights returns a workshop's current pool weights: the latest set, or
 // equal weights (At zero) when none was ever set.
 func (db *DB) Weights(ctx context.Context, workshopID int64) (elicit.Weights, error) {
+	return readWeights(ctx, db.r, workshopID)
+}
+
+func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weights, error) {
 	w := elicit.Weights{WorkshopID: workshopID, Scheme: elicit.WeightsEqual}
 	var scheme, byExpert, at string
-	err := db.r.QueryRowContext(ctx,
+	err := db.QueryRowContext(ctx,
 		`SELECT scheme, by_expert, reason, at FROM weight_sets WHERE workshop_id = ? ORDER BY id DESC LIMIT 1`,
 		workshopID).Scan(&scheme, &byExpert, &w.Reason, &at)
 	if errors.Is(err, sql.ErrNoRows) {
-		if _, err := db.Workshop(ctx, workshopID); err != nil {
+		if _, err := readWorkshop(ctx, db, workshopID); err != nil {
 			return elicit.Weights{}, err
 		}
 		return w, nil
@@ -201,7 +205,11 @@ func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensu
 // AgreedPriors returns every prior agreed on a workshop's questions,
 // oldest first; per question the latest is the current one.
 func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.AgreedPrior, error) {
-	rows, err := db.r.QueryContext(ctx,
+	return readPriors(ctx, db.r, workshopID)
+}
+
+func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.AgreedPrior, error) {
+	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
 		        p.rationale, p.round, p.at
 		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id

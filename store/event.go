@@ -26,7 +26,11 @@ func insertEvent(ctx context.Context, tx *sql.Tx, e elicit.Event) error {
 
 // Events returns a workshop's events, oldest first.
 func (db *DB) Events(ctx context.Context, workshopID int64) ([]elicit.Event, error) {
-	rows, err := db.r.QueryContext(ctx,
+	return readEvents(ctx, db.r, workshopID)
+}
+
+func readEvents(ctx context.Context, db querier, workshopID int64) ([]elicit.Event, error) {
+	rows, err := db.QueryContext(ctx,
 		`SELECT id, workshop_id, question_id, kind, at, reason, detail FROM events
 		 WHERE workshop_id = ? ORDER BY id`, workshopID)
 	if err != nil {

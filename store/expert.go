@@ -55,7 +55,11 @@ func (db *DB) Expert(ctx context.Context, id int64) (elicit.Expert, error) {
 
 // Experts returns a workshop's panel in the order they were added.
 func (db *DB) Experts(ctx context.Context, workshopID int64) ([]elicit.Expert, error) {
-	rows, err := db.r.QueryContext(ctx,
+	return readExperts(ctx, db.r, workshopID)
+}
+
+func readExperts(ctx context.Context, db querier, workshopID int64) ([]elicit.Expert, error) {
+	rows, err := db.QueryContext(ctx,
 		`SELECT `+expertColumns+` FROM experts WHERE workshop_id = ? ORDER BY id`, workshopID)
 	if err != nil {
 		return nil, fmt.Errorf("store: experts: %w", err)

@@ -70,7 +70,11 @@ func (db *DB) Question(ctx context.Context, id int64) (elicit.Question, error) {
 
 // Questions returns a workshop's questions in position order.
 func (db *DB) Questions(ctx context.Context, workshopID int64) ([]elicit.Question, error) {
-	rows, err := db.r.QueryContext(ctx,
+	return readQuestions(ctx, db.r, workshopID)
+}
+
+func readQuestions(ctx context.Context, db querier, workshopID int64) ([]elicit.Question, error) {
+	rows, err := db.QueryContext(ctx,
 		`SELECT `+questionColumns+` FROM questions WHERE workshop_id = ? ORDER BY position, id`, workshopID)
 	if err != nil {
 		return nil, fmt.Errorf("store: questions: %w", err)

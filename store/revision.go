@@ -97,7 +97,11 @@ func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, 
 // Revisions returns every revision on a workshop's questions, oldest
 // first.
 func (db *DB) Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) {
-	rows, err := db.r.QueryContext(ctx,
+	return readRevisions(ctx, db.r, workshopID)
+}
+
+func readRevisions(ctx context.Context, db querier, workshopID int64) ([]elicit.Revision, error) {
+	rows, err := db.QueryContext(ctx,
 		`SELECT r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
 		        r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts
 		 FROM revisions r JOIN questions q ON q.id = r.question_id

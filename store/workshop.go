@@ -55,7 +55,11 @@ func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
 
 // Workshop returns the workshop with the given ID.
 func (db *DB) Workshop(ctx context.Context, id int64) (elicit.Workshop, error) {
-	row := db.r.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, id)
+	return readWorkshop(ctx, db.r, id)
+}
+
+func readWorkshop(ctx context.Context, db querier, id int64) (elicit.Workshop, error) {
+	row := db.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, id)
 	w, err := scanWorkshop(row)
 	if errors.Is(err, sql.ErrNoRows) {
 		return elicit.Workshop{}, notFound("workshop", id)
