@@ -1,9 +1,17 @@
 package web
 
 import (
+	"crypto/sha256"
+	"encoding/hex"
+	"errors"
 	"fmt"
 	"math"
+	"net/http"
+	"sort"
+	"strconv"
 	"strings"
+
+	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/web/chart"
@@ -256,4 +264,425 @@ func describedBy(f formField) string {
 		ids = append(ids, f.ID+"-error")
 	}
 	return strings.Join(ids, " ")
+}
+
+// expertRoutes are mounted under /e/{token} behind requireExpert, so
+// every handler here acts for expertFrom(ctx) and no other. No expert or
+// revision id ever appears in these URLs.
+func (s *Server) expertRoutes(r chi.Router) {
+	r.Get("/", s.expertHomePage)
+	r.Get("/q/{qid}", s.expertQuestionPage)
+	r.Post("/q/{qid}/preview", s.expertPreviewPost)
+	r.Post("/q/{qid}/save", s.expertSavePost)
+}
+
+func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }
+
+const timeLayout = "2006-01-02 15:04 UTC"
+
+func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
+	e := expertFrom(r.Context())
+	ws, err := s.store.Workshop(r.Context(), e.WorkshopID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	revs, err := s.store.Revisions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	base := expertBase(r)
+	v := expertHomeView{Base: base, Expert: e.Name, Title: ws.Title, Purpose: ws.Purpose, Decision: ws.Decision, Round: ws.Round, Open: ws.Open}
+	for _, q := range qs {
+		it := expertQuestionItem{
+			Href: base + "/q/" + strconv.FormatInt(q.ID, 10), Position: q.Position,
+			Wording: q.Wording, Quantity: q.Quantity, Units: q.Units, Calibration: q.Calibration,
+		}
+		for _, rv := range revs {
+			if rv.ExpertID != e.ID || rv.QuestionID != q.ID {
+				continue
+			}
+			if rv.Round == ws.Round {
+				it.Answered, it.AnsweredAt = true, rv.At.UTC().Format(timeLayout)
+			} else {
+				it.Earlier = true
+			}
+		}
+		v.Questions = append(v.Questions, it)
+	}
+	s.renderPage(w, r, http.StatusOK, PageMeta{Title: ws.Title, Invented: ws.Invented, Caution: true}, expertHome(v))
+}
+
+// expertScope is what a question's handlers work on: the expert, their
+// workshop, the question, and the expert's own revisions of it.
+type expertScope struct {
+	expert   elicit.Expert
+	workshop elicit.Workshop
+	question elicit.Question
+	own      []elicit.Revision // oldest first
+	all      []elicit.Revision // every expert's revisions of the question
+}
+
+// loadExpertScope finds the question in the expert's own workshop. A
+// question of another workshop is as absent as one that does not exist.
+func (s *Server) loadExpertScope(r *http.Request) (expertScope, error) {
+	ctx := r.Context()
+	sc := expertScope{expert: expertFrom(ctx)}
+	qid, err := strconv.ParseInt(chi.URLParam(r, "qid"), 10, 64)
+	if err != nil || qid <= 0 {
+		return sc, elicit.ErrNotFound
+	}
+	if sc.question, err = s.store.Question(ctx, qid); err != nil {
+		return sc, err
+	}
+	if sc.question.WorkshopID != sc.expert.WorkshopID {
+		return sc, elicit.ErrNotFound
+	}
+	if sc.workshop, err = s.store.Workshop(ctx, sc.expert.WorkshopID); err != nil {
+		return sc, err
+	}
+	revs, err := s.store.Revisions(ctx, sc.workshop.ID)
+	if err != nil {
+		return sc, err
+	}
+	for _, rv := range revs {
+		if rv.QuestionID != qid {
+			continue
+		}
+		sc.all = append(sc.all, rv)
+		if rv.ExpertID == sc.expert.ID {
+			sc.own = append(sc.own, rv)
+		}
+	}
+	return sc, nil
+}
+
+func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
+	sc, err := s.loadExpertScope(r)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	var typed map[string]string
+	var preview *previewView
+	if n := len(sc.own); n > 0 {
+		cur := sc.own[n-1].Answer
+		typed = answerValues(sc.question, cur)
+		if fit, err := sc.question.Fit(cur); err == nil {
+			preview = newPreview(sc.question, fit)
+		}
+	}
+	v := s.questionView(r, sc, typed, "")
+	v.Preview = preview
+	v.Saved = r.URL.Query().Get("saved") == "1"
+	s.renderQuestion(w, r, http.StatusOK, sc, v)
+}
+
+// readAnswer parses the posted form into the question's format through
+// the one form parser, then fits it with elicit, which applies the
+// judgement's own rules. Errors land beside the fields they name.
+func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
+	var a elicit.Answer
+	switch q.Format {
+	case elicit.FormatInterval:
+		a.Lowest = f.Float("lowest")
+		a.Highest = f.Float("highest")
+		a.Best = f.Float("best")
+		a.Confidence = f.Float("confidence") / 100
+	case elicit.FormatChips:
+		a.Counts = make([]int, max(0, len(q.BinEdges)-1))
+		for i := range a.Counts {
+			a.Counts[i] = f.Int(fmt.Sprintf("counts[%d]", i), 0, 1_000_000)
+		}
+	default:
+		a.Values = make([]float64, len(q.Probs))
+		for i := range a.Values {
+			a.Values[i] = f.Float(fmt.Sprintf("values[%d]", i))
+		}
+	}
+	if !f.OK() {
+		return a, elicit.Fit{}, false
+	}
+	fit, err := q.Fit(a)
+	if err != nil {
+		var ie *elicit.InputError
+		if errors.As(err, &ie) && ie.Field == "confidence" {
+			// The form takes a percentage; say the rule in its terms.
+			f.set("confidence", "must lie strictly between 0% and 100%")
+		} else {
+			f.Fail(err, nil)
+		}
+		return a, fit, false
+	}
+	return a, fit, true
+}
+
+func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
+	sc, err := s.loadExpertScope(r)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	_, fit, ok := readAnswer(sc.question, f)
+	fragment := r.URL.Query().Get("fragment") == "1"
+	status := http.StatusOK
+	var p *previewView
+	if ok {
+		p = newPreview(sc.question, fit)
+	} else {
+		status = http.StatusUnprocessableEntity
+		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil), f)}
+	}
+	if fragment {
+		s.render(w, r, status, expertPreview(p))
+		return
+	}
+	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
+	applyErrors(&v.Form, f)
+	if ok {
+		v.Preview = p
+	}
+	s.renderQuestion(w, r, status, sc, v)
+}
+
+func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
+	sc, err := s.loadExpertScope(r)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	reason := f.Text("reason", MaxLongText, false)
+	a, fit, ok := readAnswer(sc.question, f)
+	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
+	applyErrors(&v.Form, f)
+	if !ok || !f.OK() {
+		s.renderQuestion(w, r, http.StatusUnprocessableEntity, sc, v)
+		return
+	}
+	v.Preview = newPreview(sc.question, fit)
+	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
+	if !sc.workshop.Open {
+		v.Closed = closed
+		s.renderQuestion(w, r, http.StatusConflict, sc, v)
+		return
+	}
+	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
+	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
+		if errors.Is(err, elicit.ErrRoundClosed) {
+			v.Open, v.Closed = false, closed
+			s.renderQuestion(w, r, http.StatusConflict, sc, v)
+			return
+		}
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, expertBase(r)+"/q/"+strconv.FormatInt(sc.question.ID, 10)+"?saved=1", http.StatusSeeOther)
+}
+
+func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status int, sc expertScope, v expertQuestionView) {
+	m := PageMeta{
+		Title:    "Question " + strconv.Itoa(sc.question.Position) + " · " + sc.workshop.Title,
+		Invented: sc.workshop.Invented, Caution: true,
+		Scripts: []string{"/static/preview.js"},
+	}
+	s.renderPage(w, r, status, m, expertQuestion(v))
+}
+
+// questionView builds the page around the form; the caller adds the
+// preview, notices and errors.
+func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]string, reason string) expertQuestionView {
+	q := sc.question
+	base := expertBase(r)
+	v := expertQuestionView{
+		Base: base, Action: base + "/q/" + strconv.FormatInt(q.ID, 10),
+		Title: sc.workshop.Title, Round: sc.workshop.Round, Open: sc.workshop.Open,
+		Question: expertQuestionInfo{
+			ID: q.ID, Position: q.Position, Wording: q.Wording, Quantity: q.Quantity, Units: q.Units,
+			Lower: chart.FormatValue(q.Lower), Upper: chart.FormatValue(q.Upper),
+			Format: q.Format, Calibration: q.Calibration,
+		},
+		Form: newAnswerForm(q, typed),
+	}
+	v.Form.Reason = reason
+	// A calibration question's true value reaches an expert's page only
+	// once the facilitator has revealed it.
+	if q.Calibration && q.Revealed && q.TrueValue != nil {
+		v.Question.Revealed = chart.FormatValue(*q.TrueValue)
+	}
+	for i := len(sc.own) - 1; i >= 0; i-- {
+		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
+	}
+	if sc.workshop.Round >= 2 {
+		v.Panel = s.anonymousPanel(r, sc)
+	}
+	return v
+}
+
+func newHistoryRow(q elicit.Question, rv elicit.Revision) historyRow {
+	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
+		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
+	if fit, err := q.Fit(rv.Answer); err == nil {
+		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
+	}
+	return h
+}
+
+// answerSummary writes a saved answer on one line.
+func answerSummary(q elicit.Question, a elicit.Answer) string {
+	var parts []string
+	switch q.Format {
+	case elicit.FormatInterval:
+		parts = append(parts, "lowest "+chart.FormatValue(a.Lowest), "highest "+chart.FormatValue(a.Highest),
+			"best "+chart.FormatValue(a.Best), "sure "+chart.FormatPercent(a.Confidence))
+	case elicit.FormatChips:
+		for _, c := range a.Counts {
+			parts = append(parts, strconv.Itoa(c))
+		}
+		return "chips " + strings.Join(parts, ", ")
+	default:
+		for i, x := range a.Values {
+			p := "?"
+			if i < len(q.Probs) {
+				p = chart.FormatPercent(q.Probs[i])
+			}
+			parts = append(parts, p+": "+chart.FormatValue(x))
+		}
+	}
+	return strings.Join(parts, "; ")
+}
+
+// newPreview turns a fit into the picture and its read-backs.
+func newPreview(q elicit.Question, fit elicit.Fit) *previewView {
+	p := &previewView{
+		Params: fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
+		Fit: chart.FitView{
+			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
+			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
+		},
+	}
+	for i := range fit.Probs {
+		if i >= len(fit.Stated) {
+			break
+		}
+		pr, x := fit.Probs[i], fit.Stated[i]
+		p.Fit.Points = append(p.Fit.Points, chart.Point{X: x, P: pr})
+		line := readBack(pr, x, q.Units)
+		if i < len(fit.ProbErrors) {
+			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
+		}
+		p.ReadBacks = append(p.ReadBacks, line)
+	}
+	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted %s puts the middle 90%% of the chance between %s and %s, with median %s.",
+		p.Params, chart.FormatValue(fit.Percentiles[0]), chart.FormatValue(fit.Percentiles[2]), chart.FormatValue(fit.Percentiles[1])))
+	for _, w := range fit.Warnings {
+		p.Warnings = append(p.Warnings, w.Message)
+	}
+	return p
+}
+
+// formValues keeps the typed values for showing the form again.
+func formValues(f *Form) map[string]string {
+	m := map[string]string{}
+	for k := range f.Values {
+		m[k] = f.Values.Get(k)
+	}
+	return m
+}
+
+// applyErrors copies the parser's messages beside the fields.
+func applyErrors(af *answerForm, f *Form) {
+	for i := range af.Fields {
+		af.Fields[i].Error = f.Error(af.Fields[i].Name)
+	}
+	af.ReasonError = f.Error("reason")
+	af.Error = f.Error("")
+	af.Invalid = !f.OK()
+}
+
+// problemSummary says, for the live preview, which field stops the fit.
+func problemSummary(af answerForm, f *Form) string {
+	for _, fl := range af.Fields {
+		if msg := f.Error(fl.Name); msg != "" {
+			return "No fit yet. " + fl.Label + ": " + msg + "."
+		}
+	}
+	if msg := f.Error(""); msg != "" {
+		return "No fit yet: " + msg + "."
+	}
+	return "No fit yet: check the marked fields."
+}
+
+// anonymousPanel draws, from round 2, the other experts' current fitted
+// curves without names, in an order fixed by a hash of the question and
+// the expert (not by name, id or time of answer), beside the asking
+// expert's own current curve and the equal-weight pool of everyone's.
+func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelView {
+	experts, err := s.store.Experts(r.Context(), sc.workshop.ID)
+	if err != nil {
+		return nil
+	}
+	active := map[int64]bool{}
+	for _, e := range experts {
+		if !e.Revoked {
+			active[e.ID] = true
+		}
+	}
+	latest := map[int64]elicit.Revision{}
+	for _, rv := range sc.all {
+		if active[rv.ExpertID] {
+			latest[rv.ExpertID] = rv // sc.all is oldest first
+		}
+	}
+	type other struct {
+		key  string
+		dist elicit.ScaledBeta
+	}
+	var others []other
+	var own *elicit.ScaledBeta
+	var pooled []elicit.ScaledBeta
+	q := sc.question
+	for id, rv := range latest {
+		fit, err := q.Fit(rv.Answer)
+		if err != nil {
+			continue
+		}
+		pooled = append(pooled, fit.Dist)
+		if id == sc.expert.ID {
+			d := fit.Dist
+			own = &d
+			continue
+		}
+		sum := sha256.Sum256([]byte(fmt.Sprintf("parley panel order %d %d", q.ID, id)))
+		others = append(others, other{key: hex.EncodeToString(sum[:]), dist: fit.Dist})
+	}
+	if len(others) == 0 {
+		return nil
+	}
+	sort.Slice(others, func(i, j int) bool { return others[i].key < others[j].key })
+	v := &chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	if own != nil {
+		v.Curves = append(v.Curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
+	}
+	for i, o := range others {
+		v.Curves = append(v.Curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: o.dist})
+	}
+	if pool, err := elicit.LinearPool(pooled, nil); err == nil {
+		v.Curves = append(v.Curves, chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
+			PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile})
+	}
+	return v
 }

@@ -1,0 +1,476 @@
+package web
+
+import (
+	"context"
+	"html"
+	"io"
+	"net/http"
+	"net/http/httptest"
+	"net/url"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// expertRig is a real SQLite file, a real server on loopback and an
+// invented workshop: a reliability panel on a pump seal's failure share.
+type expertRig struct {
+	t       *testing.T
+	db      *store.DB
+	srv     *httptest.Server
+	ws      elicit.Workshop
+	q       elicit.Question // quantiles at 5/50/95
+	qi      elicit.Question // four-value interval
+	qcal    elicit.Question // calibration, true value hidden
+	tokens  []string        // one per expert
+	experts []elicit.Expert
+}
+
+const hiddenTruth = 0.4321 // the calibration question's true value; never on an expert's page until revealed
+
+func newExpertRig(t *testing.T, names ...string) *expertRig {
+	t.Helper()
+	ctx := context.Background()
+	db, err := store.Open(filepath.Join(t.TempDir(), "parley.db"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	s, err := New(db, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	srv := httptest.NewServer(s.Handler())
+	t.Cleanup(srv.Close)
+	g := &expertRig{t: t, db: db, srv: srv}
+	g.ws = elicit.Workshop{Title: "Seal wear panel (invented)", Purpose: "A prior for the share of pump seals that fail within a year.",
+		Decision: "spare-part stock", Notes: "FACILITATOR-ONLY-NOTE", Invented: true}
+	if err := db.CreateWorkshop(ctx, &g.ws); err != nil {
+		t.Fatal(err)
+	}
+	g.q = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of seals fail within their first year?",
+		Quantity: "Failure share", Units: "proportion", Lower: 0, Upper: 1,
+		Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	g.qi = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of inspected seals show scoring?",
+		Quantity: "Scoring share", Units: "proportion", Lower: 0, Upper: 1, Format: elicit.FormatInterval}
+	truth := hiddenTruth
+	g.qcal = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of last year's audited pumps leaked?",
+		Quantity: "Leak share", Units: "proportion", Lower: 0, Upper: 1,
+		Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
+	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal} {
+		if err := db.AddQuestion(ctx, q); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if len(names) == 0 {
+		names = []string{"Ottilie Marsh"}
+	}
+	for _, n := range names {
+		tok, hash, err := newToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := elicit.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Affil of " + n}
+		if err := db.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		g.tokens = append(g.tokens, tok)
+		g.experts = append(g.experts, e)
+	}
+	return g
+}
+
+func (g *expertRig) qpath(i int, q elicit.Question) string {
+	return "/e/" + g.tokens[i] + "/q/" + strconv.FormatInt(q.ID, 10)
+}
+
+// get fetches path and returns status and body.
+func (g *expertRig) get(path string) (int, string) {
+	g.t.Helper()
+	resp, err := http.Get(g.srv.URL + path)
+	if err != nil {
+		g.t.Fatal(err)
+	}
+	defer resp.Body.Close()
+	b, _ := io.ReadAll(resp.Body)
+	return resp.StatusCode, string(b)
+}
+
+// post sends a form as a browser on this origin would, without following
+// redirects.
+func (g *expertRig) post(path string, form url.Values) (*http.Response, string) {
+	g.t.Helper()
+	req, err := http.NewRequest(http.MethodPost, g.srv.URL+path, strings.NewReader(form.Encode()))
+	if err != nil {
+		g.t.Fatal(err)
+	}
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", g.srv.URL)
+	c := &http.Client{CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}
+	resp, err := c.Do(req)
+	if err != nil {
+		g.t.Fatal(err)
+	}
+	defer resp.Body.Close()
+	b, _ := io.ReadAll(resp.Body)
+	return resp, string(b)
+}
+
+func (g *expertRig) revisions() []elicit.Revision {
+	g.t.Helper()
+	revs, err := g.db.Revisions(context.Background(), g.ws.ID)
+	if err != nil {
+		g.t.Fatal(err)
+	}
+	return revs
+}
+
+func quantiles(vals ...string) url.Values {
+	f := url.Values{}
+	for i, v := range vals {
+		f.Set("values["+strconv.Itoa(i)+"]", v)
+	}
+	return f
+}
+
+// shownError returns the message shown beside the field with the given
+// input id, or "".
+func shownError(body, id string) string {
+	m := regexp.MustCompile(`id="` + regexp.QuoteMeta(id) + `-error">([^<]*)<`).FindStringSubmatch(body)
+	if m == nil {
+		return ""
+	}
+	return m[1]
+}
+
+// shownValue returns the value attribute of the input with the given id.
+func shownValue(body, id string) string {
+	m := regexp.MustCompile(`<input[^>]*id="` + regexp.QuoteMeta(id) + `"[^>]*value="([^"]*)"`).FindStringSubmatch(body)
+	if m == nil {
+		return "<no input " + id + ">"
+	}
+	return m[1]
+}
+
+func TestExpertHomeListsTheirQuestions(t *testing.T) {
+	g := newExpertRig(t)
+	code, body := g.get("/e/" + g.tokens[0] + "/")
+	if code != http.StatusOK {
+		t.Fatalf("home: status %d", code)
+	}
+	for _, want := range []string{g.ws.Title, g.ws.Purpose, "Round 1 is open", g.q.Wording, g.qi.Wording, g.qcal.Wording, "Ottilie Marsh", "not answered yet", "Caution"} {
+		if !strings.Contains(body, html.EscapeString(want)) {
+			t.Errorf("home lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "FACILITATOR-ONLY-NOTE") {
+		t.Error("home shows the facilitator's notes")
+	}
+}
+
+func TestExpertUnknownTokenIsNotFound(t *testing.T) {
+	g := newExpertRig(t)
+	other, _, _ := newToken()
+	for _, path := range []string{
+		"/e/" + other + "/",
+		"/e/not-a-token/",
+		"/e/" + other + "/q/" + strconv.FormatInt(g.q.ID, 10),
+	} {
+		if code, body := g.get(path); code != http.StatusNotFound || strings.Contains(body, g.q.Wording) {
+			t.Errorf("GET %s: status %d, want 404 and no question", path, code)
+		}
+	}
+	resp, _ := g.post("/e/"+other+"/q/"+strconv.FormatInt(g.q.ID, 10)+"/save", quantiles("0.05", "0.2", "0.4"))
+	if resp.StatusCode != http.StatusNotFound {
+		t.Errorf("save with unknown token: status %d, want 404", resp.StatusCode)
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved with an unknown token", n)
+	}
+	// A question id that is not in the expert's workshop is absent too.
+	if code, _ := g.get("/e/" + g.tokens[0] + "/q/999999"); code != http.StatusNotFound {
+		t.Errorf("unknown question: status %d, want 404", code)
+	}
+}
+
+func TestExpertPreviewShowsTheFitAndSavesNothing(t *testing.T) {
+	g := newExpertRig(t)
+	resp, body := g.post(g.qpath(0, g.q)+"/preview", quantiles("0.05", "0.2", "0.4"))
+	if resp.StatusCode != http.StatusOK {
+		t.Fatalf("preview: status %d\n%s", resp.StatusCode, body)
+	}
+	if n := strings.Count(body, `class="stated"`); n != 3 {
+		t.Errorf("preview draws %d stated points, want 3", n)
+	}
+	for _, want := range []string{
+		"1 in 20 chance the value is below 0.05 proportion",
+		"as likely to be below 0.2 proportion as above it",
+		"1 in 20 chance the value is above 0.4 proportion",
+		"Beta(α =", "<svg", "median",
+	} {
+		if !strings.Contains(body, want) {
+			t.Errorf("preview lacks %q", want)
+		}
+	}
+	if got := shownValue(body, "f-values-1"); got != "0.2" {
+		t.Errorf("typed value not kept: %q", got)
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("preview saved %d revisions", n)
+	}
+
+	// The live-preview fragment is the picture alone, not a page.
+	resp, frag := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4"))
+	if resp.StatusCode != http.StatusOK || strings.Contains(frag, "<html") || !strings.Contains(frag, `class="stated"`) {
+		t.Errorf("fragment: status %d, html page %v, picture %v", resp.StatusCode, strings.Contains(frag, "<html"), strings.Contains(frag, `class="stated"`))
+	}
+	resp, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.01", "0.4"))
+	if resp.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(frag, "No fit yet") || strings.Contains(frag, "<svg") {
+		t.Errorf("bad fragment: status %d: %s", resp.StatusCode, frag)
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("fragments saved %d revisions", n)
+	}
+}
+
+func TestExpertSaveCreatesARevision(t *testing.T) {
+	g := newExpertRig(t)
+	form := quantiles("0.05", "0.2", "0.4")
+	form.Set("reason", "first thoughts after the briefing")
+	resp, _ := g.post(g.qpath(0, g.q)+"/save", form)
+	if resp.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: status %d, want 303", resp.StatusCode)
+	}
+	if loc := resp.Header.Get("Location"); loc != g.qpath(0, g.q)+"?saved=1" {
+		t.Errorf("redirect to %q", loc)
+	}
+	revs := g.revisions()
+	if len(revs) != 1 {
+		t.Fatalf("%d revisions, want 1", len(revs))
+	}
+	r := revs[0]
+	if r.ExpertID != g.experts[0].ID || r.QuestionID != g.q.ID || r.Round != 1 || r.Reason != "first thoughts after the briefing" {
+		t.Errorf("revision = %+v", r)
+	}
+	if got := r.Answer.Values; len(got) != 3 || got[0] != 0.05 || got[1] != 0.2 || got[2] != 0.4 {
+		t.Errorf("saved values %v", got)
+	}
+
+	code, page := g.get(resp.Header.Get("Location"))
+	if code != http.StatusOK || !strings.Contains(page, "Saved.") {
+		t.Errorf("after save: status %d, saved note %v", code, strings.Contains(page, "Saved."))
+	}
+	if got := shownValue(page, "f-values-2"); got != "0.4" {
+		t.Errorf("form not pre-filled with the saved answer: %q", got)
+	}
+	fit, err := g.q.Fit(r.Answer)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, want := range []string{"first thoughts after the briefing", chart.FormatValue(fit.Dist.Alpha)} {
+		if !strings.Contains(page, want) {
+			t.Errorf("history lacks %q", want)
+		}
+	}
+
+	// A second save is a second revision; the first is kept.
+	resp, _ = g.post(g.qpath(0, g.q)+"/save", quantiles("0.06", "0.2", "0.35"))
+	if resp.StatusCode != http.StatusSeeOther || len(g.revisions()) != 2 || g.revisions()[0].Answer.Values[0] != 0.05 {
+		t.Errorf("second save: status %d, %d revisions", resp.StatusCode, len(g.revisions()))
+	}
+}
+
+func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
+	g := newExpertRig(t)
+	cases := []struct {
+		name  string
+		q     elicit.Question
+		form  url.Values
+		id    string // the input whose message we expect
+		rule  string
+		typed string // a typed value that must be shown again
+	}{
+		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", string(elicit.RuleValueIncreasing), "0.01"},
+		{"outside bounds", g.q, quantiles("0.05", "0.2", "1.5"), "f-values-2", string(elicit.RuleValueInBounds), "1.5"},
+		{"not a number", g.q, quantiles("0.05", "abc", "0.4"), "f-values-1", string(RuleNumberSyntax), "abc"},
+		{"decimal comma", g.q, quantiles("0,05", "0.2", "0.4"), "f-values-0", string(RuleNumberSyntax), "0,05"},
+		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", string(elicit.RuleRequired), "0.05"},
+		{"confidence over 100%", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"120"}},
+			"f-confidence", "between 0% and 100%", "120"},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			for _, action := range []string{"/preview", "/save"} {
+				resp, body := g.post(g.qpath(0, c.q)+action, c.form)
+				if resp.StatusCode != http.StatusUnprocessableEntity {
+					t.Fatalf("%s: status %d, want 422", action, resp.StatusCode)
+				}
+				if msg := shownError(body, c.id); !strings.Contains(msg, c.rule) {
+					t.Errorf("%s: message beside %s = %q, want %q", action, c.id, msg, c.rule)
+				}
+				if !strings.Contains(body, `value="`+c.typed+`"`) {
+					t.Errorf("%s: typed value %q not shown again", action, c.typed)
+				}
+				if strings.Contains(body, "NaN") {
+					t.Errorf("%s: page shows NaN", action)
+				}
+			}
+			if n := len(g.revisions()); n != 0 {
+				t.Errorf("%d revisions saved from bad input", n)
+			}
+		})
+	}
+}
+
+func TestExpertSeesOnlyTheirOwnAnswers(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	// B saves a distinctive judgement.
+	form := quantiles("0.0123", "0.0456", "0.0789")
+	form.Set("reason", "B-PRIVATE-REASON")
+	if resp, _ := g.post(g.qpath(1, g.q)+"/save", form); resp.StatusCode != http.StatusSeeOther {
+		t.Fatalf("B's save: status %d", resp.StatusCode)
+	}
+	for _, path := range []string{"/e/" + g.tokens[0] + "/", g.qpath(0, g.q)} {
+		code, body := g.get(path)
+		if code != http.StatusOK {
+			t.Fatalf("GET %s: %d", path, code)
+		}
+		for _, leak := range []string{"0.0123", "0.0456", "0.0789", "B-PRIVATE-REASON", "Bruno Ferrante"} {
+			if strings.Contains(body, leak) {
+				t.Errorf("A's page %s shows B's %q", path, leak)
+			}
+		}
+	}
+	// B's own page shows them.
+	if _, body := g.get(g.qpath(1, g.q)); !strings.Contains(body, "B-PRIVATE-REASON") || !strings.Contains(body, `value="0.0456"`) {
+		t.Error("B's page does not show B's own answer")
+	}
+	// A's save is A's revision, whatever B did.
+	if resp, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.1", "0.2", "0.3")); resp.StatusCode != http.StatusSeeOther {
+		t.Fatal("A's save failed")
+	}
+	revs := g.revisions()
+	if len(revs) != 2 || revs[0].ExpertID != g.experts[1].ID || revs[1].ExpertID != g.experts[0].ID {
+		t.Errorf("revisions belong to the wrong experts: %+v", revs)
+	}
+}
+
+func TestCalibrationTruthNeverReachesExperts(t *testing.T) {
+	g := newExpertRig(t)
+	truth := strconv.FormatFloat(hiddenTruth, 'f', -1, 64)
+	check := func(what, body string) {
+		t.Helper()
+		if strings.Contains(body, truth) {
+			t.Errorf("%s shows the hidden true value %s", what, truth)
+		}
+	}
+	_, home := g.get("/e/" + g.tokens[0] + "/")
+	check("home", home)
+	_, page := g.get(g.qpath(0, g.qcal))
+	check("question page", page)
+	_, body := g.post(g.qpath(0, g.qcal)+"/preview", quantiles("0.2", "0.35", "0.6"))
+	check("preview", body)
+	_, body = g.post(g.qpath(0, g.qcal)+"/preview?fragment=1", quantiles("0.2", "0.35", "0.6"))
+	check("fragment", body)
+	_, body = g.post(g.qpath(0, g.qcal)+"/save", quantiles("0.2", "0.35", "0.6"))
+	check("save", body)
+	_, page = g.get(g.qpath(0, g.qcal) + "?saved=1")
+	check("page after save", page)
+	if !strings.Contains(page, "Calibration question") {
+		t.Error("the calibration question is not marked as one")
+	}
+
+	// Once revealed, the expert may see it.
+	if err := g.db.SetTrueValue(context.Background(), g.qcal.ID, hiddenTruth, true, "workshop over"); err != nil {
+		t.Fatal(err)
+	}
+	if _, page = g.get(g.qpath(0, g.qcal)); !strings.Contains(page, "The true value is "+truth) {
+		t.Error("the revealed true value is not shown")
+	}
+}
+
+func TestExpertSaveInAClosedRoundIsRefused(t *testing.T) {
+	g := newExpertRig(t)
+	if err := g.db.SetRound(context.Background(), g.ws.ID, 1, false, "break for discussion"); err != nil {
+		t.Fatal(err)
+	}
+	resp, body := g.post(g.qpath(0, g.q)+"/save", quantiles("0.05", "0.2", "0.4"))
+	if resp.StatusCode != http.StatusConflict {
+		t.Fatalf("save in a closed round: status %d, want 409", resp.StatusCode)
+	}
+	if !strings.Contains(body, "Round 1 is closed, so your answer was not saved") || !strings.Contains(body, `value="0.2"`) {
+		t.Error("409 page lacks the message or the typed values")
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved in a closed round", n)
+	}
+	// The page itself says saving is closed.
+	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, "Round 1 is closed") {
+		t.Error("question page does not say the round is closed")
+	}
+}
+
+func TestRoundTwoPanelIsAnonymous(t *testing.T) {
+	names := []string{"Ada Quell", "Bruno Ferrante", "Chiara Osei"}
+	g := newExpertRig(t, names...)
+	answers := [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}, {"0.1", "0.3", "0.5"}}
+	for i, a := range answers {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	// Round 1: no panel.
+	if _, page := g.get(g.qpath(0, g.q)); strings.Contains(page, "What the other experts said") {
+		t.Error("round 1 shows the panel")
+	}
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	_, page := g.get(g.qpath(0, g.q))
+	for _, want := range []string{"What the other experts said", `data-label="Expert 1"`, `data-label="Expert 2"`, `data-label="You"`, "Equal-weight pool", "Round 2 is open"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("round 2 page lacks %q", want)
+		}
+	}
+	if strings.Contains(page, `data-label="Expert 3"`) {
+		t.Error("the panel labels the asking expert as another expert")
+	}
+	for _, n := range names[1:] {
+		for _, leak := range []string{n, "Affil of " + n} {
+			if strings.Contains(page, leak) {
+				t.Errorf("round 2 page names %q", leak)
+			}
+		}
+	}
+	// The panel's curves are the other experts' fits (two CDF curves
+	// besides the expert's own and the pool).
+	start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")
+	if start < 0 || end < start {
+		t.Fatal("no panel section before the history")
+	}
+	panel := page[start:end]
+	if n := strings.Count(panel, "curve-cdf curve-expert"); n != 3 {
+		t.Errorf("%d expert CDF curves in the panel, want 3 (you and two others)", n)
+	}
+	if n := strings.Count(panel, "curve-cdf curve-pool"); n != 1 {
+		t.Errorf("%d pool curves, want 1", n)
+	}
+	// A revision in round 2 is recorded as round 2.
+	if resp, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.04", "0.18", "0.38")); resp.StatusCode != http.StatusSeeOther {
+		t.Fatal("round 2 save failed")
+	}
+	revs := g.revisions()
+	if last := revs[len(revs)-1]; last.Round != 2 {
+		t.Errorf("round 2 revision recorded as round %d", last.Round)
+	}
+}
