@@ -1,0 +1,184 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"io"
+	"log/slog"
+	"net"
+	"net/http"
+	"os"
+	"os/signal"
+	"path/filepath"
+	"syscall"
+	"time"
+
+	"github.com/parley-elicit/parley/store"
+	"github.com/parley-elicit/parley/web"
+)
+
+func init() {
+	command("serve", "run the workshop server (--addr, --db, --no-demo, --tls-cert, --tls-key); the default command", runServe)
+}
+
+// serveConfig is what `parley serve` was asked to do.
+type serveConfig struct {
+	addr, db, baseURL string
+	noDemo            bool
+	tlsCert, tlsKey   string
+}
+
+func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("serve", stderr)
+	var c serveConfig
+	fs.StringVar(&c.addr, "addr", "127.0.0.1:8080", "`host:port` to listen on; anything but loopback prints a warning")
+	fs.StringVar(&c.db, "db", "parley.db", "SQLite database `file`, created if missing")
+	fs.BoolVar(&c.noDemo, "no-demo", false, "do not create the invented demo workshop in an empty database")
+	fs.StringVar(&c.tlsCert, "tls-cert", "", "TLS certificate `file` (with --tls-key)")
+	fs.StringVar(&c.tlsKey, "tls-key", "", "TLS private key `file` (with --tls-cert)")
+	fs.StringVar(&c.baseURL, "base-url", "", "address printed in links handed out, e.g. http://192.168.1.20:8080 (default: from --addr)")
+	if err := fs.Parse(args); err != nil {
+		return exitBadInput
+	}
+	if fs.NArg() > 0 {
+		return fail(stderr, "serve", badInput("addr", "unexpected argument %q", fs.Arg(0)))
+	}
+	if (c.tlsCert == "") != (c.tlsKey == "") {
+		return fail(stderr, "serve", badInput("tls-cert", "--tls-cert and --tls-key go together"))
+	}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	if err := serve(ctx, c, stdout, stderr); err != nil {
+		return fail(stderr, "serve", err)
+	}
+	return exitOK
+}
+
+// serve runs the server until ctx ends, then shuts down gracefully: stop
+// accepting, let in-flight requests finish (up to 15 s), close the DB.
+func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
+	host, _, err := net.SplitHostPort(c.addr)
+	if err != nil {
+		return badInput("addr", "%v", err)
+	}
+	dbPath, err := filepath.Abs(c.db)
+	if err != nil {
+		return badInput("db", "%v", err)
+	}
+	db, err := store.Open(dbPath)
+	if err != nil {
+		return err
+	}
+	defer db.Close()
+	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
+
+	// The secret exists before anything binds, so a non-loopback address is
+	// never served without one.
+	secret, err := web.EnsureFacilitatorSecret(ctx, db)
+	if err != nil {
+		return err
+	}
+	if h, err := db.FacilitatorHash(ctx); err != nil || len(h) == 0 {
+		return fmt.Errorf("no facilitator secret is set, so Parley will not listen (%v)", err)
+	}
+
+	ln, err := net.Listen("tcp", c.addr)
+	if err != nil {
+		return err
+	}
+	scheme := "http"
+	if c.tlsCert != "" {
+		scheme = "https"
+	}
+	base := c.baseURL
+	if base == "" {
+		base = scheme + "://" + printableAddr(host, ln.Addr())
+	}
+	if !isLoopback(host) {
+		fmt.Fprintf(stderr, "parley: WARNING: listening on %s, reachable from other machines on the network. "+
+			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", ln.Addr())
+	}
+
+	srv, err := web.New(db, web.Options{
+		BaseURL:       base,
+		Logger:        slog.New(slog.NewTextHandler(stderr, nil)),
+		SecureCookies: c.tlsCert != "",
+	})
+	if err != nil {
+		ln.Close()
+		return err
+	}
+	if !c.noDemo {
+		links, err := web.SeedDemo(ctx, db)
+		if err != nil {
+			ln.Close()
+			return err
+		}
+		if links != nil {
+			fmt.Fprintln(stdout, "parley: created the invented demo workshop; its experts' private links (shown once):")
+			for _, l := range links {
+				fmt.Fprintf(stdout, "  %-16s %s%s\n", l.Name, base, l.Path)
+			}
+		}
+	}
+	fmt.Fprintf(stdout, "parley: serving at %s/\n", base)
+	if secret != "" {
+		fmt.Fprintf(stdout, "parley: facilitator sign-in (shown once, keep it private): %s%s\n", base, web.SignInPath(secret))
+	} else {
+		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin (lost the secret? parley facilitator-reset --db %s)\n", base, dbPath)
+	}
+
+	hs := &http.Server{
+		Handler:           srv.Handler(),
+		ReadHeaderTimeout: 10 * time.Second,
+		ReadTimeout:       30 * time.Second,
+		WriteTimeout:      60 * time.Second,
+		IdleTimeout:       120 * time.Second,
+		MaxHeaderBytes:    32 << 10,
+	}
+	errc := make(chan error, 1)
+	go func() {
+		if c.tlsCert != "" {
+			errc <- hs.ServeTLS(ln, c.tlsCert, c.tlsKey)
+		} else {
+			errc <- hs.Serve(ln)
+		}
+	}()
+	select {
+	case err := <-errc:
+		return err
+	case <-ctx.Done():
+	}
+	fmt.Fprintln(stdout, "parley: shutting down")
+	sctx, cancel := context.WithTimeout(context.Background(), 15*time.Second)
+	defer cancel()
+	err = hs.Shutdown(sctx)
+	if e := <-errc; !errors.Is(e, http.ErrServerClosed) && err == nil {
+		err = e
+	}
+	return err
+}
+
+// isLoopback reports whether host names only this machine.
+func isLoopback(host string) bool {
+	if host == "localhost" {
+		return true
+	}
+	ip := net.ParseIP(host)
+	return ip != nil && ip.IsLoopback()
+}
+
+// printableAddr is the address to print for a listener: the wildcard
+// host is shown as 127.0.0.1, which works from this machine.
+func printableAddr(host string, a net.Addr) string {
+	_, port, err := net.SplitHostPort(a.String())
+	if err != nil {
+		return a.String()
+	}
+	ip := net.ParseIP(host)
+	if host == "" || (ip != nil && ip.IsUnspecified()) {
+		host = "127.0.0.1"
+	}
+	return net.JoinHostPort(host, port)
+}

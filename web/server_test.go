@@ -1,0 +1,330 @@
+package web
+
+import (
+	"context"
+	"io"
+	"net/http"
+	"net/http/cookiejar"
+	"net/http/httptest"
+	"net/url"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"testing"
+
+	"golang.org/x/crypto/bcrypt"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
+)
+
+func TestMain(m *testing.M) {
+	bcryptCost = bcrypt.MinCost // the real cost only slows tests
+	os.Exit(m.Run())
+}
+
+// harness is a real Server over a real SQLite file, on a real loopback
+// listener, with a browser-like client (cookie jar, Origin on POSTs, no
+// redirect following so tests see the 303s).
+type harness struct {
+	t      *testing.T
+	db     *store.DB
+	srv    *Server
+	ts     *httptest.Server
+	client *http.Client
+}
+
+func newHarness(t *testing.T) *harness {
+	t.Helper()
+	db, err := store.Open(filepath.Join(t.TempDir(), "parley.db"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	srv, err := New(db, Options{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(srv.Handler())
+	t.Cleanup(ts.Close)
+	jar, _ := cookiejar.New(nil)
+	c := &http.Client{Jar: jar, CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}
+	return &harness{t: t, db: db, srv: srv, ts: ts, client: c}
+}
+
+// signIn sets a facilitator secret and signs the harness's client in.
+func (h *harness) signIn() {
+	h.t.Helper()
+	secret, err := ResetFacilitatorSecret(context.Background(), h.db)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	res, _ := h.post("/signin", url.Values{"secret": {secret}})
+	if res.StatusCode != http.StatusSeeOther {
+		h.t.Fatalf("sign-in: status %d", res.StatusCode)
+	}
+}
+
+func (h *harness) do(req *http.Request) (*http.Response, string) {
+	h.t.Helper()
+	res, err := h.client.Do(req)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	defer res.Body.Close()
+	b, err := io.ReadAll(res.Body)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	return res, string(b)
+}
+
+func (h *harness) get(path string) (*http.Response, string) {
+	h.t.Helper()
+	req, err := http.NewRequest(http.MethodGet, h.ts.URL+path, nil)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	return h.do(req)
+}
+
+// post sends a form the way a browser on a Parley page does: with an
+// Origin naming this server.
+func (h *harness) post(path string, v url.Values) (*http.Response, string) {
+	h.t.Helper()
+	return h.postWith(path, v, map[string]string{"Origin": h.ts.URL})
+}
+
+func (h *harness) postWith(path string, v url.Values, headers map[string]string) (*http.Response, string) {
+	h.t.Helper()
+	req, err := http.NewRequest(http.MethodPost, h.ts.URL+path, strings.NewReader(v.Encode()))
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	for k, val := range headers {
+		req.Header.Set(k, val)
+	}
+	return h.do(req)
+}
+
+func (h *harness) workshopCount() int {
+	h.t.Helper()
+	ws, err := h.db.Workshops(context.Background())
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	return len(ws)
+}
+
+// newWorkshop creates a workshop through the form and returns its ID.
+func (h *harness) newWorkshop(title string) elicit.Workshop {
+	h.t.Helper()
+	res, body := h.post("/workshops", url.Values{"title": {title}, "purpose": {"Invented test purpose"}})
+	if res.StatusCode != http.StatusSeeOther {
+		h.t.Fatalf("create workshop: %d %s", res.StatusCode, body)
+	}
+	ws, err := h.db.Workshops(context.Background())
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	for _, w := range ws {
+		if w.Title == title {
+			return w
+		}
+	}
+	h.t.Fatalf("workshop %q not saved", title)
+	return elicit.Workshop{}
+}
+
+var linkPattern = regexp.MustCompile(`/e/([A-Za-z0-9_-]{43})/`)
+
+// addExpert adds an expert through the form and returns the token shown
+// once on the page.
+func (h *harness) addExpert(ws elicit.Workshop, name string) (elicit.Expert, string) {
+	h.t.Helper()
+	res, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "affiliation": {"Invented Co."}})
+	if res.StatusCode != http.StatusCreated {
+		h.t.Fatalf("add expert: %d", res.StatusCode)
+	}
+	m := linkPattern.FindStringSubmatch(body)
+	if m == nil {
+		h.t.Fatalf("add expert: no private link on the page")
+	}
+	es, err := h.db.Experts(context.Background(), ws.ID)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	for _, e := range es {
+		if e.Name == name {
+			return e, m[1]
+		}
+	}
+	h.t.Fatalf("expert %q not saved", name)
+	return elicit.Expert{}, ""
+}
+
+func TestSecurityHeadersOnEveryResponse(t *testing.T) {
+	h := newHarness(t)
+	for _, path := range []string{"/signin", "/", "/static/style.css", "/no/such/page", "/e/not-a-token/"} {
+		res, _ := h.get(path)
+		hd := res.Header
+		if got := hd.Get("Content-Security-Policy"); got != contentSecurityPolicy {
+			t.Errorf("%s: CSP %q", path, got)
+		}
+		for k, want := range map[string]string{
+			"X-Content-Type-Options": "nosniff",
+			"Referrer-Policy":        "no-referrer",
+			"X-Frame-Options":        "DENY",
+		} {
+			if got := hd.Get(k); got != want {
+				t.Errorf("%s: %s = %q, want %q", path, k, got, want)
+			}
+		}
+	}
+	if !strings.Contains(contentSecurityPolicy, "frame-ancestors 'none'") || strings.Contains(contentSecurityPolicy, "unsafe-inline") {
+		t.Errorf("CSP %q", contentSecurityPolicy)
+	}
+}
+
+// TestNoInlineScriptOrStyle renders the facilitator's pages and checks
+// they carry nothing the CSP would block.
+func TestNoInlineScriptOrStyle(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Inline check")
+	h.addExpert(ws, "A. Expert")
+	inline := regexp.MustCompile(`(?i)<script>|<script\s+[^>]*>[^<]+</script>|\sstyle=|<style|\son[a-z]+=`)
+	for _, path := range []string{"/", "/signin", workshopPath(ws.ID), workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/log"} {
+		_, body := h.get(path)
+		if m := inline.FindString(body); m != "" {
+			t.Errorf("%s: inline script or style %q", path, m)
+		}
+	}
+}
+
+func TestFacilitatorPagesNeedSession(t *testing.T) {
+	h := newHarness(t)
+	ws := elicit.Workshop{Title: "Private"}
+	if err := h.db.CreateWorkshop(context.Background(), &ws); err != nil {
+		t.Fatal(err)
+	}
+	for _, path := range []string{"/", workshopPath(ws.ID), workshopPath(ws.ID) + "/log", workshopPath(ws.ID) + "/questions/new"} {
+		res, body := h.get(path)
+		if res.StatusCode != http.StatusSeeOther || res.Header.Get("Location") != "/signin" {
+			t.Errorf("GET %s without session: %d %s", path, res.StatusCode, res.Header.Get("Location"))
+		}
+		if strings.Contains(body, "Private") {
+			t.Errorf("GET %s without session leaks the workshop", path)
+		}
+	}
+	res, _ := h.post("/workshops", url.Values{"title": {"Sneaky"}})
+	if res.StatusCode != http.StatusUnauthorized {
+		t.Errorf("POST /workshops without session: %d", res.StatusCode)
+	}
+	if n := h.workshopCount(); n != 1 {
+		t.Errorf("%d workshops after refused POST, want 1", n)
+	}
+	// A forged cookie is no session.
+	u, _ := url.Parse(h.ts.URL)
+	h.client.Jar.SetCookies(u, []*http.Cookie{{Name: sessionCookie, Value: strings.Repeat("A", 43)}})
+	if res, _ := h.get("/"); res.StatusCode != http.StatusSeeOther {
+		t.Errorf("forged session cookie: %d", res.StatusCode)
+	}
+}
+
+func TestSignIn(t *testing.T) {
+	h := newHarness(t)
+	secret, err := EnsureFacilitatorSecret(context.Background(), h.db)
+	if err != nil || len(secret) != 43 {
+		t.Fatalf("EnsureFacilitatorSecret = %q, %v", secret, err)
+	}
+	if again, err := EnsureFacilitatorSecret(context.Background(), h.db); again != "" || err != nil {
+		t.Fatalf("second EnsureFacilitatorSecret = %q, %v; want no new secret", again, err)
+	}
+	stored, _ := h.db.FacilitatorHash(context.Background())
+	if strings.Contains(string(stored), secret) {
+		t.Fatal("the secret itself is stored")
+	}
+	res, body := h.post("/signin", url.Values{"secret": {secret[:42] + "x"}})
+	if res.StatusCode != http.StatusUnauthorized || !strings.Contains(body, "does not match") {
+		t.Fatalf("wrong secret: %d", res.StatusCode)
+	}
+	res, _ = h.post("/signin", url.Values{"secret": {secret}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("right secret: %d", res.StatusCode)
+	}
+	var c *http.Cookie
+	for _, k := range res.Cookies() {
+		if k.Name == sessionCookie {
+			c = k
+		}
+	}
+	if c == nil || !c.HttpOnly || c.SameSite != http.SameSiteStrictMode || c.MaxAge <= 0 || c.Expires.IsZero() {
+		t.Fatalf("session cookie %+v", c)
+	}
+	if res, _ := h.get("/"); res.StatusCode != http.StatusOK {
+		t.Fatalf("signed in GET /: %d", res.StatusCode)
+	}
+	// A reset ends the session.
+	if _, err := ResetFacilitatorSecret(context.Background(), h.db); err != nil {
+		t.Fatal(err)
+	}
+	if res, _ := h.get("/"); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("after reset GET /: %d", res.StatusCode)
+	}
+}
+
+func TestCrossOriginPostsRefused(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	form := url.Values{"title": {"Forged"}}
+	for _, tc := range []struct {
+		name    string
+		headers map[string]string
+	}{
+		{"no origin at all", map[string]string{}},
+		{"other site's origin", map[string]string{"Origin": "http://evil.example"}},
+		{"cross-site fetch", map[string]string{"Sec-Fetch-Site": "cross-site"}},
+		{"same-site other port", map[string]string{"Sec-Fetch-Site": "same-site", "Origin": "http://127.0.0.1:1"}},
+	} {
+		res, _ := h.postWith("/workshops", form, tc.headers)
+		if res.StatusCode != http.StatusForbidden {
+			t.Errorf("%s: status %d, want 403", tc.name, res.StatusCode)
+		}
+	}
+	if n := h.workshopCount(); n != 0 {
+		t.Fatalf("%d workshops saved by refused posts", n)
+	}
+	res, _ := h.postWith("/workshops", form, map[string]string{"Sec-Fetch-Site": "same-origin"})
+	if res.StatusCode != http.StatusSeeOther || h.workshopCount() != 1 {
+		t.Fatalf("same-origin post: %d", res.StatusCode)
+	}
+	// State changes need POST: GET on a POST route changes nothing.
+	if res, _ := h.get("/workshops?title=ViaGet"); res.StatusCode != http.StatusMethodNotAllowed || h.workshopCount() != 1 {
+		t.Fatalf("GET /workshops: %d", res.StatusCode)
+	}
+}
+
+func TestOversizeBody(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	big := url.Values{"title": {"Big"}, "notes": {strings.Repeat("x", MaxBodyBytes)}}
+	res, _ := h.post("/workshops", big)
+	if res.StatusCode != http.StatusRequestEntityTooLarge {
+		t.Errorf("declared oversize body: %d", res.StatusCode)
+	}
+	// Without a Content-Length (chunked) the limit bites while reading.
+	req, _ := http.NewRequest(http.MethodPost, h.ts.URL+"/workshops", io.MultiReader(strings.NewReader(big.Encode())))
+	req.ContentLength = -1
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", h.ts.URL)
+	res, _ = h.do(req)
+	if res.StatusCode != http.StatusRequestEntityTooLarge {
+		t.Errorf("chunked oversize body: %d", res.StatusCode)
+	}
+	if n := h.workshopCount(); n != 0 {
+		t.Fatalf("%d workshops saved from oversize bodies", n)
+	}
+}
