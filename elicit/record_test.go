@@ -1,0 +1,417 @@
+package elicit
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"errors"
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+)
+
+var t0 = time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC)
+
+// inventedSource is an invented workshop on a pump seal failure share:
+// three experts, a quantile question with two rounds, a hidden
+// calibration question, custom weights and two agreed priors.
+func inventedSource() RecordSource {
+	truth := 0.3
+	w := Workshop{ID: 7, Title: "Pump seals (invented)", Purpose: "prior for a failure share",
+		Decision: "spare stock", Notes: "=not a formula", Round: 2, Open: true, Invented: true, Created: t0}
+	qs := []Question{
+		{ID: 11, WorkshopID: 7, Position: 1, Wording: "Share of seals failing within a year?",
+			Quantity: "failure share", Units: "proportion", Lower: 0, Upper: 1,
+			Format: FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
+		{ID: 12, WorkshopID: 7, Position: 2, Wording: "Share of audited pumps leaking last year?",
+			Quantity: "leak share", Lower: 0, Upper: 1, Format: FormatInterval,
+			Calibration: true, TrueValue: &truth},
+	}
+	es := []Expert{
+		{ID: 21, WorkshopID: 7, Name: "Ada", Affiliation: "Plant A", Created: t0},
+		{ID: 22, WorkshopID: 7, Name: "Bela", Created: t0},
+		{ID: 23, WorkshopID: 7, Name: "Chidi", Revoked: true, Created: t0},
+	}
+	at := func(m int) time.Time { return t0.Add(time.Duration(m) * time.Minute) }
+	rs := []Revision{
+		{ID: 31, QuestionID: 11, ExpertID: 21, Round: 1, At: at(1), Answer: Answer{Values: []float64{0.05, 0.15, 0.35}}},
+		{ID: 32, QuestionID: 11, ExpertID: 22, Round: 1, At: at(2), Answer: Answer{Values: []float64{0.1, 0.2, 0.4}}},
+		{ID: 33, QuestionID: 11, ExpertID: 23, Round: 1, At: at(3), Answer: Answer{Values: []float64{0.2, 0.5, 0.8}}},
+		{ID: 34, QuestionID: 12, ExpertID: 21, Round: 1, At: at(4),
+			Answer: Answer{Lowest: 0.1, Highest: 0.5, Best: 0.25, Confidence: 0.8}},
+		{ID: 35, QuestionID: 11, ExpertID: 21, Round: 2, At: at(5), Reason: "-after discussion",
+			Answer: Answer{Values: []float64{0.08, 0.18, 0.36}}},
+	}
+	consensus := Answer{Values: []float64{0.08, 0.18, 0.38}}
+	return RecordSource{
+		Workshop:  w,
+		Questions: qs,
+		Experts:   es,
+		Revisions: rs,
+		Weights: Weights{WorkshopID: 7, Scheme: WeightsCustom, Reason: "Ada ran the audits",
+			ByExpert: map[int64]float64{21: 3, 22: 1, 23: 1}, At: at(6)},
+		Priors: []AgreedPrior{
+			{ID: 41, QuestionID: 11, Source: PriorFromPool, Dist: Unit(Beta{Alpha: 3, Beta: 12}),
+				Rationale: "the pool", Round: 2, At: at(7)},
+			{ID: 42, QuestionID: 11, Source: PriorFromConsensus, Dist: Unit(Beta{Alpha: 4.2, Beta: 17.9}),
+				Consensus: &consensus, Rationale: "agreed in discussion", Round: 2, At: at(8)},
+		},
+		Events: []Event{
+			{ID: 51, WorkshopID: 7, Kind: EventWorkshopCreated, At: t0},
+			{ID: 52, WorkshopID: 7, QuestionID: 11, Kind: EventPriorAgreed, At: at(8), Reason: "agreed in discussion"},
+		},
+	}
+}
+
+func buildInvented(t *testing.T) Record {
+	t.Helper()
+	r, err := BuildRecord(inventedSource(), t0.Add(time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return r
+}
+
+func TestBuildRecordContent(t *testing.T) {
+	src := inventedSource()
+	r := buildInvented(t)
+	if r.Format != RecordFormat || r.Caution != Caution || !r.Generated.Equal(t0.Add(time.Hour)) {
+		t.Fatalf("header %d %q %v", r.Format, r.Caution, r.Generated)
+	}
+	if len(r.Revisions) != len(src.Revisions) {
+		t.Fatalf("%d revisions, want %d", len(r.Revisions), len(src.Revisions))
+	}
+	// Each revision carries exactly what its question's Fit gives.
+	for i, rv := range r.Revisions {
+		q := src.Questions[0]
+		if rv.QuestionID == 12 {
+			q = src.Questions[1]
+		}
+		f, err := q.Fit(src.Revisions[i].Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if rv.Fit == nil || rv.Fit.Dist != f.Dist || rv.Fit.SSE != f.SSE || rv.Fit.Percentiles.P50 != f.Percentiles[1] {
+			t.Fatalf("revision %d fit %+v, want %+v", rv.ID, rv.Fit, f)
+		}
+	}
+	q1, q2 := r.Questions[0], r.Questions[1]
+	// Current fits: Ada's round 2 revision replaces her round 1 one.
+	var current []int64
+	for _, c := range q1.CurrentFits {
+		current = append(current, c.RevisionID)
+	}
+	if want := []int64{35, 32, 33}; !equalIDs(current, want) {
+		t.Fatalf("current revisions %v, want %v", current, want)
+	}
+	// The pool leaves out the revoked expert and normalises 3:1.
+	p := q1.Pool
+	if p == nil || len(p.Weights) != 2 || p.Weights[0] != (ExpertWeight{21, 0.75}) || p.Weights[1] != (ExpertWeight{22, 0.25}) {
+		t.Fatalf("pool weights %+v, want Ada 0.75, Bela 0.25", p)
+	}
+	// A mixture's mean is the weighted mean of its components' means, so
+	// the pool must be Ada's round 2 fit and Bela's at 3:1 and nothing else.
+	ada, bela := r.Revisions[4].Fit.Dist, r.Revisions[1].Fit.Dist
+	if want := 0.75*ada.Mean() + 0.25*bela.Mean(); math.Abs(p.Mean-want) > 1e-12 {
+		t.Fatalf("pool mean %v, want %v", p.Mean, want)
+	}
+	if !(p.Percentiles.P05 < p.Percentiles.P50 && p.Percentiles.P50 < p.Percentiles.P95) || p.BestBeta == nil || p.BestBeta.Dist.Validate() != nil {
+		t.Fatalf("pool summary %+v", p)
+	}
+	if q1.AgreedPrior == nil || q1.AgreedPrior.ID != 42 || len(q1.PriorHistory) != 2 || len(q1.AgreedPrior.Snippets) == 0 {
+		t.Fatalf("agreed prior %+v, history %d", q1.AgreedPrior, len(q1.PriorHistory))
+	}
+	if q2.TrueValue != nil {
+		t.Fatalf("unrevealed true value exported: %v", *q2.TrueValue)
+	}
+	if src.Questions[1].TrueValue == nil {
+		t.Fatal("BuildRecord changed its source's question")
+	}
+	src.Questions[1].Revealed = true
+	revealed, err := BuildRecord(src, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if tv := revealed.Questions[1].TrueValue; tv == nil || *tv != 0.3 {
+		t.Fatalf("revealed true value %v, want 0.3", tv)
+	}
+}
+
+func equalIDs(a, b []int64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}
+
+func compileSchema(t *testing.T) *jsonschema.Schema {
+	t.Helper()
+	sch, err := jsonschema.NewCompiler().Compile("../testdata/export.schema.json")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sch
+}
+
+func asJSONValue(t *testing.T, v any) any {
+	t.Helper()
+	b, err := json.Marshal(v)
+	if err != nil {
+		t.Fatal(err)
+	}
+	doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+	if err != nil {
+		t.Fatal(err)
+	}
+	return doc
+}
+
+func TestRecordMatchesSchema(t *testing.T) {
+	sch := compileSchema(t)
+	if err := sch.Validate(asJSONValue(t, buildInvented(t))); err != nil {
+		t.Fatalf("built record does not match testdata/export.schema.json: %v", err)
+	}
+	// A workshop with nothing in it yet is a valid record too.
+	empty, err := BuildRecord(RecordSource{Workshop: inventedSource().Workshop,
+		Weights: Weights{WorkshopID: 7, Scheme: WeightsEqual}}, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := sch.Validate(asJSONValue(t, empty)); err != nil {
+		t.Fatalf("empty record does not match the schema: %v", err)
+	}
+}
+
+func TestSchemaRejects(t *testing.T) {
+	sch := compileSchema(t)
+	tests := []struct {
+		name   string
+		mutate func(doc map[string]any)
+	}{
+		{"missing caution", func(d map[string]any) { delete(d, "caution") }},
+		{"missing format marker", func(d map[string]any) { delete(d, "parley_record") }},
+		{"missing revisions", func(d map[string]any) { delete(d, "revisions") }},
+		{"revision without fit", func(d map[string]any) {
+			delete(d["revisions"].([]any)[0].(map[string]any), "fit")
+		}},
+		{"hidden true value present", func(d map[string]any) {
+			d["questions"].([]any)[1].(map[string]any)["true_value"] = 0.3
+		}},
+		{"expert with a token", func(d map[string]any) {
+			d["experts"].([]any)[0].(map[string]any)["token"] = "abc"
+		}},
+		{"unknown answer format", func(d map[string]any) {
+			d["questions"].([]any)[0].(map[string]any)["format"] = "guess"
+		}},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			doc := asJSONValue(t, buildInvented(t)).(map[string]any)
+			tt.mutate(doc)
+			if err := sch.Validate(doc); err == nil {
+				t.Fatal("schema accepted the broken record")
+			}
+		})
+	}
+}
+
+// The notation is each language's own: Stan Functions Reference, "Beta
+// distribution" (y ~ beta(alpha, beta)); R's ?dbeta (dbeta(x, shape1,
+// shape2)); PyMC's API docs for pymc.Beta (alpha=, beta=); JAGS User
+// Manual, table of distributions (dbeta(a, b)).
+func TestPriorSnippets(t *testing.T) {
+	tests := []struct {
+		d    ScaledBeta
+		want map[string]string
+	}{
+		{Unit(Beta{4.2, 17.9}), map[string]string{
+			"Stan": "p ~ beta(4.2, 17.9);",
+			"R":    "dbeta(p, 4.2, 17.9)",
+			"PyMC": `pm.Beta("p", alpha=4.2, beta=17.9)`,
+			"JAGS": "p ~ dbeta(4.2, 17.9)",
+		}},
+		{ScaledBeta{Beta: Beta{2, 3.123456789}, Lower: 10, Upper: 30}, map[string]string{
+			"Stan": "p_unit ~ beta(2, 3.12346);  // p = 10 + 20 * p_unit",
+			"R":    "dbeta(p_unit, 2, 3.12346)  # p = 10 + 20 * p_unit",
+			"PyMC": `pm.Beta("p_unit", alpha=2, beta=3.12346)  # p = 10 + 20 * p_unit`,
+			"JAGS": "p_unit ~ dbeta(2, 3.12346)  # p = 10 + 20 * p_unit",
+		}},
+	}
+	for _, tt := range tests {
+		got := PriorSnippets(tt.d)
+		if len(got) != len(tt.want) {
+			t.Fatalf("%d snippets, want %d", len(got), len(tt.want))
+		}
+		for _, s := range got {
+			if s.Code != tt.want[s.Language] {
+				t.Errorf("%s: %q, want %q", s.Language, s.Code, tt.want[s.Language])
+			}
+		}
+	}
+}
+
+func TestWriteCSV(t *testing.T) {
+	r := buildInvented(t)
+	var buf bytes.Buffer
+	if err := r.WriteCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 1+len(r.Revisions) {
+		t.Fatalf("%d rows, want a header and %d", len(rows), len(r.Revisions))
+	}
+	col := map[string]int{}
+	for i, h := range rows[0] {
+		col[h] = i
+	}
+	for i, rv := range r.Revisions {
+		row := rows[i+1]
+		alpha, err := strconv.ParseFloat(row[col["alpha"]], 64)
+		if err != nil || alpha != rv.Fit.Dist.Alpha {
+			t.Errorf("row %d alpha %q, want %v", i, row[col["alpha"]], rv.Fit.Dist.Alpha)
+		}
+		if row[col["revision_id"]] != strconv.FormatInt(rv.ID, 10) {
+			t.Errorf("row %d revision %q, want %d", i, row[col["revision_id"]], rv.ID)
+		}
+	}
+	last := rows[len(rows)-1]
+	if got := last[col["reason"]]; got != "'-after discussion" {
+		t.Errorf("reason cell %q: a leading '-' must be defused", got)
+	}
+	if got := last[col["stated"]]; got != "0.08 0.18 0.36" {
+		t.Errorf("stated %q", got)
+	}
+	if got := rows[4][col["stated"]]; got != "0.1 0.5 0.25 0.8" {
+		t.Errorf("interval stated %q, want lowest highest best confidence", got)
+	}
+}
+
+func TestForQuestion(t *testing.T) {
+	r := buildInvented(t)
+	one, err := r.ForQuestion(12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(one.Questions) != 1 || len(one.Revisions) != 1 || one.Revisions[0].ID != 34 || len(one.Events) != 1 {
+		t.Fatalf("narrowed record: %d questions, %d revisions, %d events", len(one.Questions), len(one.Revisions), len(one.Events))
+	}
+	if _, err := r.ForQuestion(99); !errors.Is(err, ErrNotFound) {
+		t.Fatalf("missing question: %v", err)
+	}
+}
+
+func TestValidateRecord(t *testing.T) {
+	if err := buildInvented(t).Validate(); err != nil {
+		t.Fatalf("a built record is invalid: %v", err)
+	}
+	tests := []struct {
+		name   string
+		mutate func(r *Record)
+		field  string
+		rule   Rule
+	}{
+		{"format", func(r *Record) { r.Format = 2 }, "parley_record", RuleUnknown},
+		{"title", func(r *Record) { r.Workshop.Title = " " }, "workshop.title", RuleRequired},
+		{"long notes", func(r *Record) { r.Workshop.Notes = strings.Repeat("x", maxText+1) }, "workshop.notes", RuleTooLong},
+		{"round", func(r *Record) { r.Workshop.Round = 0 }, "workshop.round", RulePositive},
+		{"expert name", func(r *Record) { r.Experts[1].Name = "" }, "experts[1].name", RuleRequired},
+		{"duplicate expert", func(r *Record) { r.Experts[1].ID = 21 }, "experts[1].id", RuleUnknown},
+		{"question bounds", func(r *Record) { r.Questions[0].Upper = -1 }, "questions[0].lower", RuleBoundsOrder},
+		{"question probs", func(r *Record) { r.Questions[0].Probs = []float64{0.5, 0.05, 0.95} }, "questions[0].probs[1]", RuleProbIncreasing},
+		{"question format", func(r *Record) { r.Questions[1].Format = "guess" }, "questions[1].format", RuleUnknown},
+		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", RuleValueInBounds},
+		{"answer values", func(r *Record) { r.Revisions[1].Answer.Values[1] = 0.01 }, "revisions[1].answer.values[1]", RuleValueIncreasing},
+		{"answer out of bounds", func(r *Record) { r.Revisions[4].Answer.Values[2] = 1.5 }, "revisions[4].answer.values[2]", RuleValueInBounds},
+		{"revision question", func(r *Record) { r.Revisions[2].QuestionID = 99 }, "revisions[2].question_id", RuleUnknown},
+		{"revision expert", func(r *Record) { r.Revisions[2].ExpertID = 99 }, "revisions[2].expert_id", RuleUnknown},
+		{"revision round", func(r *Record) { r.Revisions[0].Round = 3 }, "revisions[0].round", RuleCountRange},
+		{"revision time", func(r *Record) { r.Revisions[0].At = time.Time{} }, "revisions[0].at", RuleRequired},
+		{"weight expert", func(r *Record) { r.Weights.ByExpert[99] = 1 }, "weights.by_expert[99]", RuleUnknown},
+		{"negative weight", func(r *Record) { r.Weights.ByExpert[22] = -1 }, "weights.by_expert[22]", RuleNonNegative},
+		{"prior dist", func(r *Record) { r.Questions[0].PriorHistory[1].Dist.Alpha = 0 }, "questions[0].prior_history[1].dist.alpha", RulePositive},
+		{"prior source", func(r *Record) { r.Questions[0].PriorHistory[0].Source = "vote" }, "questions[0].prior_history[0].source", RuleUnknown},
+		{"consensus", func(r *Record) { r.Questions[0].PriorHistory[1].Consensus.Values[0] = 0.5 }, "questions[0].prior_history[1].consensus.values[1]", RuleValueIncreasing},
+		{"event kind", func(r *Record) { r.Events[0].Kind = "coffee" }, "events[0].kind", RuleUnknown},
+		{"event question", func(r *Record) { r.Events[1].QuestionID = 99 }, "events[1].question_id", RuleUnknown},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			r := buildInvented(t)
+			tt.mutate(&r)
+			err := r.Validate()
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.Field != tt.field || ie.Rule != tt.rule {
+				t.Fatalf("Validate() = %v, want field %q rule %q", err, tt.field, tt.rule)
+			}
+		})
+	}
+}
+
+func TestParseRecord(t *testing.T) {
+	good, err := json.Marshal(buildInvented(t))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ParseRecord(bytes.NewReader(good)); err != nil {
+		t.Fatalf("ParseRecord of a built record: %v", err)
+	}
+	tests := []struct {
+		name, doc, field string
+		rule             Rule
+	}{
+		{"not JSON", "{", "record", RuleRecordJSON},
+		{"unknown key", strings.Replace(string(good), `"caution"`, `"cautions"`, 1), "record", RuleRecordJSON},
+		{"wrong type", strings.Replace(string(good), `"parley_record":1`, `"parley_record":"1"`, 1), "parley_record", RuleRecordJSON},
+		{"trailing data", string(good) + "{}", "record", RuleRecordJSON},
+		{"bad answer", strings.Replace(string(good), `"values":[0.05,0.15,0.35]`, `"values":[0.05,0.15,0.15]`, 1),
+			"revisions[0].answer.values[2]", RuleValueIncreasing},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			_, err := ParseRecord(strings.NewReader(tt.doc))
+			var ie *InputError
+			if !errors.As(err, &ie) || ie.Field != tt.field || ie.Rule != tt.rule {
+				t.Fatalf("ParseRecord = %v, want field %q rule %q", err, tt.field, tt.rule)
+			}
+		})
+	}
+}
+
+// FuzzParseRecord: whatever arrives, ParseRecord returns a valid record
+// or an *InputError, and never panics.
+func FuzzParseRecord(f *testing.F) {
+	r, err := BuildRecord(inventedSource(), t0)
+	if err != nil {
+		f.Fatal(err)
+	}
+	good, _ := json.Marshal(r)
+	f.Add(good)
+	f.Add([]byte(`{"parley_record":1}`))
+	f.Add([]byte(`[]`))
+	f.Fuzz(func(t *testing.T, doc []byte) {
+		rec, err := ParseRecord(bytes.NewReader(doc))
+		if err != nil {
+			var ie *InputError
+			if !errors.As(err, &ie) {
+				t.Fatalf("error %v is not an *InputError", err)
+			}
+			return
+		}
+		if _, err := BuildRecord(RecordSource{Workshop: rec.Workshop, Experts: rec.Experts,
+			Weights: rec.Weights, Events: rec.Events}, t0); err != nil {
+			t.Fatalf("a valid record's workshop does not rebuild: %v", err)
+		}
+	})
+}
