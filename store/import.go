@@ -1,0 +1,220 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"fmt"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Import adds the workshop in rec to the database as a new workshop and
+// returns its ID. The record is validated in full first (rec.Validate);
+// then everything is written in one transaction, so a bad record leaves
+// the database as it was. Every entity gets a new ID and every reference
+// is remapped, including expert IDs inside event details. Experts are
+// imported without access tokens: the facilitator issues new links.
+// Fits and pools in the record are not imported; they are recomputed
+// from the judgements.
+func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
+	if err := rec.Validate(); err != nil {
+		return 0, err
+	}
+	var workshopID int64
+	err := db.write(ctx, func(tx *sql.Tx) error {
+		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}}
+		var err error
+		if workshopID, err = imp.workshop(rec.Workshop); err != nil {
+			return err
+		}
+		for _, q := range rec.Questions {
+			if err := imp.question(workshopID, q.Question); err != nil {
+				return err
+			}
+		}
+		for _, e := range rec.Experts {
+			if err := imp.expert(workshopID, e); err != nil {
+				return err
+			}
+		}
+		for _, rv := range rec.Revisions {
+			if err := imp.revision(rv.Revision); err != nil {
+				return err
+			}
+		}
+		if err := imp.weights(workshopID, rec.Weights); err != nil {
+			return err
+		}
+		for _, q := range rec.Questions {
+			for _, ap := range q.PriorHistory {
+				if err := imp.prior(ap); err != nil {
+					return err
+				}
+			}
+		}
+		for _, e := range rec.Events {
+			e.WorkshopID, e.QuestionID = workshopID, imp.questions[e.QuestionID]
+			e.Detail = remapDetail(e.Detail, imp.experts)
+			if err := insertEvent(ctx, tx, e); err != nil {
+				return err
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return 0, fmt.Errorf("store: import: %w", err)
+	}
+	return workshopID, nil
+}
+
+// importer writes one record's rows and remembers old → new IDs.
+type importer struct {
+	ctx       context.Context
+	tx        *sql.Tx
+	questions map[int64]int64
+	experts   map[int64]int64
+}
+
+func (imp importer) insert(query string, args ...any) (int64, error) {
+	res, err := imp.tx.ExecContext(imp.ctx, query, args...)
+	if err != nil {
+		return 0, err
+	}
+	return res.LastInsertId()
+}
+
+func (imp importer) workshop(w elicit.Workshop) (int64, error) {
+	return imp.insert(
+		`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, created)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
+		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), formatTime(w.Created))
+}
+
+func (imp importer) question(workshopID int64, q elicit.Question) error {
+	probs, err := marshalList(q.Probs)
+	if err != nil {
+		return err
+	}
+	edges, err := marshalList(q.BinEdges)
+	if err != nil {
+		return err
+	}
+	id, err := imp.insert(
+		`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
+		 probs, bin_edges, chips, calibration, true_value, revealed)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		workshopID, q.Position, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
+		probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed))
+	if err != nil {
+		return fmt.Errorf("question %d: %w", q.ID, err)
+	}
+	imp.questions[q.ID] = id
+	return nil
+}
+
+func (imp importer) expert(workshopID int64, e elicit.Expert) error {
+	id, err := imp.insert(
+		`INSERT INTO experts (workshop_id, name, affiliation, expertise, token_hash, revoked, created)
+		 VALUES (?, ?, ?, ?, NULL, ?, ?)`,
+		workshopID, e.Name, e.Affiliation, e.Expertise, boolInt(e.Revoked), formatTime(e.Created))
+	if err != nil {
+		return fmt.Errorf("expert %d: %w", e.ID, err)
+	}
+	imp.experts[e.ID] = id
+	return nil
+}
+
+func (imp importer) revision(rv elicit.Revision) error {
+	values, err := marshalList(rv.Answer.Values)
+	if err != nil {
+		return err
+	}
+	counts, err := marshalList(rv.Answer.Counts)
+	if err != nil {
+		return err
+	}
+	rv.QuestionID, rv.ExpertID = imp.questions[rv.QuestionID], imp.experts[rv.ExpertID]
+	if _, err := insertRevision(imp.ctx, imp.tx, rv, values, counts); err != nil {
+		return fmt.Errorf("revision %d: %w", rv.ID, err)
+	}
+	return nil
+}
+
+// weights writes the record's current weights unless they are the
+// default (equal, never set).
+func (imp importer) weights(workshopID int64, w elicit.Weights) error {
+	if w.At.IsZero() && w.Scheme == elicit.WeightsEqual && len(w.ByExpert) == 0 {
+		return nil
+	}
+	byExpert := map[int64]float64{}
+	for id, v := range w.ByExpert {
+		byExpert[imp.experts[id]] = v
+	}
+	b, err := json.Marshal(byExpert)
+	if err != nil {
+		return fmt.Errorf("weights: %w", err)
+	}
+	_, err = imp.insert(`INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`,
+		workshopID, string(w.Scheme), string(b), w.Reason, formatTime(w.At))
+	if err != nil {
+		return fmt.Errorf("weights: %w", err)
+	}
+	return nil
+}
+
+func (imp importer) prior(ap elicit.AgreedPrior) error {
+	consensus, err := marshalConsensus(ap.Consensus)
+	if err != nil {
+		return err
+	}
+	ap.QuestionID = imp.questions[ap.QuestionID]
+	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus); err != nil {
+		return fmt.Errorf("agreed prior %d: %w", ap.ID, err)
+	}
+	return nil
+}
+
+// remapDetail rewrites the expert IDs in an event's detail: an
+// "expert_id" number and the keys of a "by_expert" object. A detail whose
+// IDs do not change, or that is not a JSON object, is kept byte for byte.
+func remapDetail(detail string, experts map[int64]int64) string {
+	var m map[string]json.RawMessage
+	if detail == "" || json.Unmarshal([]byte(detail), &m) != nil {
+		return detail
+	}
+	changed := false
+	if raw, ok := m["expert_id"]; ok {
+		var id int64
+		if json.Unmarshal(raw, &id) == nil {
+			if n, ok := experts[id]; ok && n != id {
+				m["expert_id"] = json.RawMessage(strconv.FormatInt(n, 10))
+				changed = true
+			}
+		}
+	}
+	if raw, ok := m["by_expert"]; ok {
+		var by map[int64]float64
+		if json.Unmarshal(raw, &by) == nil {
+			out := map[int64]float64{}
+			for id, v := range by {
+				if n, ok := experts[id]; ok && n != id {
+					id = n
+					changed = true
+				}
+				out[id] = v
+			}
+			b, _ := json.Marshal(out)
+			m["by_expert"] = b
+		}
+	}
+	if !changed {
+		return detail
+	}
+	b, err := json.Marshal(m)
+	if err != nil {
+		return detail
+	}
+	return string(b)
+}

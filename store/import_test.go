@@ -1,0 +1,225 @@
+package store
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"path/filepath"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// fullWorkshop seeds a workshop through every kind of decision: two
+// rounds of revisions, a revealed truth, custom weights, a revoked expert
+// and two agreed priors.
+func fullWorkshop(t *testing.T, db *DB) panel {
+	t.Helper()
+	ctx := context.Background()
+	p := seed(t, db)
+	save := func(q, e int, a elicit.Answer, reason string) {
+		r := elicit.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: a, Reason: reason}
+		if err := db.SaveRevision(ctx, &r); err != nil {
+			t.Fatal(err)
+		}
+	}
+	save(0, 0, quantileAnswer(0.3), "")
+	save(0, 1, quantileAnswer(0.4), "")
+	save(0, 2, quantileAnswer(0.5), "")
+	save(1, 0, elicit.Answer{Lowest: 0.1, Highest: 0.6, Best: 0.3, Confidence: 0.8}, "")
+	must(t, db.SetRound(ctx, p.w.ID, 1, false, "discussion"))
+	must(t, db.SetRound(ctx, p.w.ID, 2, true, "second look"))
+	save(0, 0, quantileAnswer(0.35), "heard Bela")
+	must(t, db.RevokeExpert(ctx, p.experts[2].ID, "left"))
+	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.28, true, "seed revealed"))
+	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom, Reason: "audits",
+		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1}}))
+	consensus := quantileAnswer(0.33)
+	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool"}))
+	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromConsensus,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed"}))
+	return p
+}
+
+func must(t *testing.T, err error) {
+	t.Helper()
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
+var exportTime = time.Date(2026, 3, 3, 12, 0, 0, 0, time.UTC)
+
+func exportJSON(t *testing.T, db *DB, id int64) []byte {
+	t.Helper()
+	rec, err := db.Record(context.Background(), id, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.MarshalIndent(rec, "", " ")
+	if err != nil {
+		t.Fatal(err)
+	}
+	return b
+}
+
+// TestImportRoundTrip exports a workshop, imports the JSON into an empty
+// database and exports again: with IDs assigned in the same order the two
+// documents are identical.
+func TestImportRoundTrip(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	first := exportJSON(t, src, p.w.ID)
+	rec, err := elicit.ParseRecord(bytes.NewReader(first))
+	if err != nil {
+		t.Fatal(err)
+	}
+
+	dst := newDB(t)
+	id, err := dst.Import(ctx, rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if second := exportJSON(t, dst, id); !bytes.Equal(first, second) {
+		t.Fatalf("export after import differs:\n%s\n---\n%s", first, second)
+	}
+	// Imported experts have no link until the facilitator issues one.
+	var withToken int
+	must(t, dst.r.QueryRowContext(ctx, `SELECT COUNT(*) FROM experts WHERE token_hash IS NOT NULL`).Scan(&withToken))
+	if withToken != 0 {
+		t.Fatalf("%d imported experts kept a token", withToken)
+	}
+	es, _ := dst.Experts(ctx, id)
+	must(t, dst.ReissueToken(ctx, es[0].ID, []byte("fresh"), "after import"))
+	if e, err := dst.ExpertByToken(ctx, []byte("fresh")); err != nil || e.ID != es[0].ID {
+		t.Fatalf("reissued token: %+v, %v", e, err)
+	}
+
+	// A second import into the source database gets new IDs throughout.
+	again, err := src.Import(ctx, rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if again == p.w.ID {
+		t.Fatal("import reused the workshop's ID")
+	}
+	copyRec, err := src.Record(ctx, again, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(copyRec.Revisions) != len(rec.Revisions) || len(copyRec.Events) != len(rec.Events) {
+		t.Fatalf("copy has %d revisions, %d events; want %d, %d",
+			len(copyRec.Revisions), len(copyRec.Events), len(rec.Revisions), len(rec.Events))
+	}
+	newExperts := map[int64]bool{}
+	for _, e := range copyRec.Experts {
+		newExperts[e.ID] = true
+	}
+	for _, rv := range copyRec.Revisions {
+		if !newExperts[rv.ExpertID] {
+			t.Fatalf("revision %d points at expert %d outside the copy", rv.ID, rv.ExpertID)
+		}
+	}
+	for id := range copyRec.Weights.ByExpert {
+		if !newExperts[id] {
+			t.Fatalf("weights name expert %d outside the copy", id)
+		}
+	}
+	if copyRec.Questions[0].AgreedPrior.Dist != rec.Questions[0].AgreedPrior.Dist {
+		t.Fatalf("agreed prior %+v, want %+v", copyRec.Questions[0].AgreedPrior.Dist, rec.Questions[0].AgreedPrior.Dist)
+	}
+}
+
+func TestImportInvalidWritesNothing(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	rec, err := src.Record(ctx, p.w.ID, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rec.Revisions[1].Answer.Values[1] = 0.01 // no longer increasing
+
+	dst, err := Open(filepath.Join(t.TempDir(), "dst.db"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer dst.Close()
+	_, err = dst.Import(ctx, rec)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "revisions[1].answer.values[1]" {
+		t.Fatalf("Import = %v, want an InputError on revisions[1].answer.values[1]", err)
+	}
+	for _, table := range []string{"workshops", "questions", "experts", "revisions", "events", "weight_sets", "agreed_priors"} {
+		var n int
+		if err := dst.r.QueryRowContext(ctx, "SELECT COUNT(*) FROM "+table).Scan(&n); err != nil {
+			t.Fatal(err)
+		}
+		if n != 0 {
+			t.Errorf("rejected import left %d rows in %s", n, table)
+		}
+	}
+}
+
+func TestRemapDetail(t *testing.T) {
+	m := map[int64]int64{3: 30, 4: 4}
+	tests := []struct{ in, want string }{
+		{`{"expert_id":3}`, `{"expert_id":30}`},
+		{`{"expert_id":4}`, `{"expert_id":4}`},
+		{`{"scheme":"custom","by_expert":{"3":2,"4":1}}`, `{"by_expert":{"30":2,"4":1},"scheme":"custom"}`},
+		{`{"round":2}`, `{"round":2}`},
+		{`not json`, `not json`},
+		{``, ``},
+	}
+	for _, tt := range tests {
+		if got := remapDetail(tt.in, m); got != tt.want {
+			t.Errorf("remapDetail(%s) = %s, want %s", tt.in, got, tt.want)
+		}
+	}
+}
+
+// TestRecordWhileSaving builds records while experts join and save: every
+// record is one snapshot, so it always validates.
+func TestRecordWhileSaving(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	done := make(chan error)
+	go func() {
+		for i := range 300 {
+			e := elicit.Expert{WorkshopID: p.w.ID, Name: "late joiner"}
+			if err := db.AddExpert(ctx, &e, []byte(fmt.Sprintf("late-%d", i))); err != nil {
+				done <- err
+				return
+			}
+			r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}
+			if err := db.SaveRevision(ctx, &r); err != nil {
+				done <- err
+				return
+			}
+		}
+		done <- nil
+	}()
+	for {
+		select {
+		case err := <-done:
+			if err != nil {
+				t.Fatal(err)
+			}
+			return
+		default:
+		}
+		rec, err := db.Record(ctx, p.w.ID, exportTime)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := rec.Validate(); err != nil {
+			t.Fatalf("record built during saves is inconsistent: %v", err)
+		}
+	}
+}
