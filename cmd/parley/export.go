@@ -1,0 +1,72 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"io"
+	"os"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("export", "write a workshop's record as JSON or CSV (--db, --workshop, --format, --question, --out)", runExport)
+}
+
+func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("export", stderr)
+	dbPath := fs.String("db", "", "database `file`")
+	workshop := fs.Int64("workshop", 0, "workshop `ID`")
+	format := fs.String("format", "json", "json or csv")
+	question := fs.Int64("question", 0, "export only this question `ID`")
+	out := fs.String("out", "", "write to `file` instead of standard output")
+	if err := fs.Parse(args); err != nil {
+		return exitBadInput
+	}
+	if *format != "json" && *format != "csv" {
+		return fail(stderr, "export", badInput("format", "must be json or csv, got %q", *format))
+	}
+	if *workshop <= 0 {
+		return fail(stderr, "export", badInput("workshop", "a workshop ID (a whole number above 0) is required"))
+	}
+	db, err := openExisting(*dbPath)
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	defer db.Close()
+	rec, err := db.Record(context.Background(), *workshop, time.Now())
+	if errors.Is(err, elicit.ErrNotFound) {
+		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshop, *dbPath))
+	}
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	if *question != 0 {
+		if rec, err = rec.ForQuestion(*question); err != nil {
+			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshop))
+		}
+	}
+	var buf bytes.Buffer
+	if *format == "csv" {
+		err = rec.WriteCSV(&buf)
+	} else {
+		enc := json.NewEncoder(&buf)
+		enc.SetIndent("", "  ")
+		err = enc.Encode(rec)
+	}
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	if *out == "" {
+		_, err = stdout.Write(buf.Bytes())
+	} else {
+		err = os.WriteFile(*out, buf.Bytes(), 0o644)
+	}
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	return exitOK
+}

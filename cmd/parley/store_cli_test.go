@@ -1,0 +1,228 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"encoding/csv"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
+)
+
+// cliWorkshop writes an invented workshop to a new database file: two
+// questions, two experts, three revisions and an agreed prior.
+func cliWorkshop(t *testing.T) (path string, workshopID, questionID int64) {
+	t.Helper()
+	path = filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	ctx := context.Background()
+	w := elicit.Workshop{Title: "Hatchery survival (invented)", Invented: true}
+	check(t, db.CreateWorkshop(ctx, &w))
+	var qs []elicit.Question
+	for _, wording := range []string{"Share of fry surviving a season?", "Share of tagged fish returning?"} {
+		q := elicit.Question{WorkshopID: w.ID, Wording: wording, Quantity: "survival share", Lower: 0, Upper: 1,
+			Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+		check(t, db.AddQuestion(ctx, &q))
+		qs = append(qs, q)
+	}
+	for i, name := range []string{"Ines", "Jomo"} {
+		e := elicit.Expert{WorkshopID: w.ID, Name: name}
+		check(t, db.AddExpert(ctx, &e, []byte("token-"+name)))
+		for _, q := range qs[:2-i] {
+			r := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID,
+				Answer: elicit.Answer{Values: []float64{0.1, 0.2 + 0.05*float64(i), 0.4}}}
+			check(t, db.SaveRevision(ctx, &r))
+		}
+	}
+	check(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: qs[0].ID, Source: elicit.PriorFromPool,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 14}), Rationale: "the pool, unchanged"}))
+	return path, w.ID, qs[0].ID
+}
+
+func check(t *testing.T, err error) {
+	t.Helper()
+	if err != nil {
+		t.Fatal(err)
+	}
+}
+
+func run(args ...string) (code int, stdout, stderr string) {
+	var out, errb bytes.Buffer
+	code = dispatch(args, strings.NewReader(""), &out, &errb)
+	return code, out.String(), errb.String()
+}
+
+func TestExportJSON(t *testing.T) {
+	path, wid, qid := cliWorkshop(t)
+	code, out, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--format", "json")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	sch, err := jsonschema.NewCompiler().Compile("../../testdata/export.schema.json")
+	check(t, err)
+	doc, err := jsonschema.UnmarshalJSON(strings.NewReader(out))
+	check(t, err)
+	if err := sch.Validate(doc); err != nil {
+		t.Fatalf("export does not match the schema: %v", err)
+	}
+	var rec elicit.Record
+	check(t, json.Unmarshal([]byte(out), &rec))
+	if len(rec.Revisions) != 3 || rec.Caution != elicit.Caution || rec.Questions[0].AgreedPrior == nil {
+		t.Fatalf("record: %d revisions, caution %q, prior %v", len(rec.Revisions), rec.Caution, rec.Questions[0].AgreedPrior)
+	}
+
+	// --question narrows the record; --out writes a file.
+	file := filepath.Join(t.TempDir(), "q.json")
+	code, out, errs = run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10),
+		"--question", strconv.FormatInt(qid, 10), "--out", file)
+	if code != exitOK || out != "" {
+		t.Fatalf("exit %d, stdout %q: %s", code, out, errs)
+	}
+	b, err := os.ReadFile(file)
+	check(t, err)
+	var one elicit.Record
+	check(t, json.Unmarshal(b, &one))
+	if len(one.Questions) != 1 || one.Questions[0].ID != qid || len(one.Revisions) != 2 {
+		t.Fatalf("question export: %d questions, %d revisions", len(one.Questions), len(one.Revisions))
+	}
+}
+
+func TestExportCSV(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	code, out, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--format", "csv")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	check(t, err)
+	if len(rows) != 4 || rows[0][0] != "workshop_id" || rows[1][5] != "Ines" {
+		t.Fatalf("csv rows %q", rows)
+	}
+}
+
+func TestExportBadInput(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	missing := filepath.Join(t.TempDir(), "nope.db")
+	tests := []struct {
+		name  string
+		args  []string
+		field string
+	}{
+		{"no db", []string{"--workshop", ws}, "--db"},
+		{"missing db file", []string{"--db", missing, "--workshop", ws}, "--db"},
+		{"no workshop", []string{"--db", path}, "--workshop"},
+		{"unknown workshop", []string{"--db", path, "--workshop", "99"}, "--workshop"},
+		{"unknown question", []string{"--db", path, "--workshop", ws, "--question", "99"}, "--question"},
+		{"bad format", []string{"--db", path, "--workshop", ws, "--format", "xml"}, "--format"},
+		{"not a number", []string{"--db", path, "--workshop", "one"}, "-workshop"},
+	}
+	for _, tt := range tests {
+		t.Run(tt.name, func(t *testing.T) {
+			code, out, errs := run(append([]string{"export"}, tt.args...)...)
+			if code != exitBadInput || out != "" || !strings.Contains(errs, tt.field) {
+				t.Fatalf("exit %d, stdout %q, stderr %q; want 2 naming %s", code, out, errs, tt.field)
+			}
+		})
+	}
+	if _, err := os.Stat(missing); !os.IsNotExist(err) {
+		t.Fatal("export created the missing database file")
+	}
+}
+
+func TestBackupCommand(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	dest := filepath.Join(t.TempDir(), "copy.db")
+	if code, _, errs := run("backup", "--db", path, "--out", dest); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	cp, err := store.Open(dest)
+	check(t, err)
+	defer cp.Close()
+	if v, err := cp.IntegrityCheck(context.Background()); v != "ok" || err != nil {
+		t.Fatalf("copy integrity %q, %v", v, err)
+	}
+	if rs, err := cp.Revisions(context.Background(), wid); err != nil || len(rs) != 3 {
+		t.Fatalf("copy has %d revisions, %v", len(rs), err)
+	}
+	before, _ := os.ReadFile(dest)
+	code, _, errs := run("backup", "--db", path, "--out", dest)
+	if code != exitBadInput || !strings.Contains(errs, "--out") {
+		t.Fatalf("backup over an existing file: exit %d, %s", code, errs)
+	}
+	if after, _ := os.ReadFile(dest); !bytes.Equal(before, after) {
+		t.Fatal("refused backup changed the existing file")
+	}
+	if code, _, _ := run("backup", "--db", filepath.Join(t.TempDir(), "nope.db"), "--out", dest+"2"); code != exitBadInput {
+		t.Fatalf("backup of a missing database: exit %d", code)
+	}
+}
+
+func TestImportCommand(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	other := filepath.Join(t.TempDir(), "other.db")
+	code, out, errs := run("import", "--db", other, "--in", file)
+	if code != exitOK {
+		t.Fatalf("import: exit %d: %s", code, errs)
+	}
+	newID := strings.TrimSpace(out)
+	code, again, errs := run("export", "--db", other, "--workshop", newID, "--format", "csv")
+	code0, orig, _ := run("export", "--db", path, "--workshop", ws, "--format", "csv")
+	if code != exitOK || code0 != exitOK {
+		t.Fatalf("re-export: %s", errs)
+	}
+	if again != orig { // a fresh database assigns the same IDs in the same order
+		t.Fatalf("CSV after import differs:\n%s\n---\n%s", orig, again)
+	}
+
+	// A broken record is refused with the field named, and nothing is written.
+	b, err := os.ReadFile(file)
+	check(t, err)
+	var doc map[string]any
+	check(t, json.Unmarshal(b, &doc))
+	ans := doc["revisions"].([]any)[1].(map[string]any)["answer"].(map[string]any)
+	ans["values"] = []any{0.1, 0.05, 0.4}
+	bad := filepath.Join(t.TempDir(), "bad.json")
+	b, _ = json.Marshal(doc)
+	check(t, os.WriteFile(bad, b, 0o644))
+	empty := filepath.Join(t.TempDir(), "empty.db")
+	code, out, errs = run("import", "--db", empty, "--in", bad)
+	if code != exitBadInput || out != "" || !strings.Contains(errs, "revisions[1].answer.values[1]") {
+		t.Fatalf("bad record: exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+	if _, err := os.Stat(empty); !os.IsNotExist(err) {
+		t.Fatal("a refused import created the database")
+	}
+	code, _, errs = run("import", "--db", other, "--in", bad)
+	if code != exitBadInput {
+		t.Fatalf("bad record into a database: exit %d: %s", code, errs)
+	}
+	db, err := store.Open(other)
+	check(t, err)
+	defer db.Close()
+	if ws, _ := db.Workshops(context.Background()); len(ws) != 1 {
+		t.Fatalf("%d workshops after one good and one refused import, want 1", len(ws))
+	}
+	for _, args := range [][]string{{"--in", file}, {"--db", other}, {"--db", other, "--in", file + ".missing"}} {
+		if code, _, _ := run(append([]string{"import"}, args...)...); code != exitBadInput {
+			t.Errorf("import %v: exit %d, want 2", args, code)
+		}
+	}
+}
