@@ -106,30 +106,41 @@ func newFitModel(v FitView) fitModel {
 	}
 
 	names := [3]string{"5%", "median", "95%"}
-	lastPx := -1e9
+	// Labels sit on one of two rows above the plot; a label moves up a
+	// row when it would overlap the one before it on the lower row.
+	rowEnd := [2]float64{-1e9, -1e9}
 	for i, x := range v.Percentiles {
 		m.Pcts[i] = FormatValue(x)
 		if !isFinite(x) || x < g.X0 || x > g.X1 {
 			continue
 		}
 		px := g.dens.px(x)
-		ly := g.dens.Top - 8
-		if px-lastPx < 46 { // stagger labels that would overlap
-			ly -= 14
-		}
-		lastPx = px
+		label := names[i] + " " + formatSig(x, 3)
+		w := labelWidth(label)
 		// Keep labels near the plot's edges inside the picture.
-		anchor, lx := "middle", px
+		anchor, left := "middle", px-w/2
 		switch {
-		case px-g.dens.Left < 40:
-			anchor, lx = "start", px-4
-		case g.dens.right()-px < 40:
-			anchor, lx = "end", px+4
+		case px-g.dens.Left < w/2:
+			anchor, left = "start", px-4
+		case g.dens.right()-px < w/2:
+			anchor, left = "end", px+4-w
+		}
+		row := 0
+		if left < rowEnd[0]+6 {
+			row = 1
+		}
+		rowEnd[row] = left + w
+		lx := px
+		switch anchor {
+		case "start":
+			lx = px - 4
+		case "end":
+			lx = px + 4
 		}
 		m.Marks = append(m.Marks, markGeom{
 			X: coord(px), Top: coord(g.dens.Top), Bottom: coord(g.cumul.bottom()),
 			LabelX: coord(lx), Anchor: anchor,
-			LabelY: coord(ly), Label: names[i] + " " + formatSig(x, 3), Value: fmt.Sprint(x),
+			LabelY: coord(g.dens.Top - 8 - 14*float64(row)), Label: label, Value: fmt.Sprint(x),
 		})
 	}
 
@@ -159,3 +170,7 @@ func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	}
 	return strings.TrimSpace(b.String())
 }
+
+// labelWidth estimates the drawn width of a 12px bold label: about 7px a
+// character in the system sans-serif fonts.
+func labelWidth(s string) float64 { return 7 * float64(len([]rune(s))) }
