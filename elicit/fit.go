@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"sort"
 
 	"gonum.org/v1/gonum/mat"
 	"gonum.org/v1/gonum/optimize"
@@ -67,8 +68,11 @@ var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
 //
 // the usual choice in the elicitation literature (O'Hagan et al. 2006,
 // "Uncertain Judgements", §6.4). The search runs over (log α, log β) with
-// gonum/optimize from a moment-based start and, unless that start already
-// gives a close fit, from a deterministic grid of further starts. A
+// gonum/optimize from a moment-based start; unless that fit misses no
+// probability by more than 0.02, two further starts at the same mean with
+// α+β 30 times larger and smaller; and unless the best fit then misses by
+// no more than PoorFitThreshold, a deterministic grid of starts over α+β
+// and the mean. A
 // judgement of two pairs is matched exactly (|F(xᵢ) − pᵢ| ≤ 1e-9) by a
 // final Newton root-finding polish.
 func FitQuantiles(j Judgement) (Fit, error) {
@@ -161,11 +165,14 @@ var (
 
 const (
 	// closeFit is the largest probability error at which the fit from the
-	// moment-based start is accepted without trying further starts.
+	// moment-based start is accepted without trying further starts. Up to
+	// PoorFitThreshold two more starts are tried, at the same mean with
+	// α+β 30 times larger and smaller; beyond it, the whole grid.
 	closeFit = 0.02
-	// gridRestarts is how many of the best grid points are used as
-	// further starts.
-	gridRestarts = 3
+	// gridRestarts is how many grid points are used as further starts
+	// (all 15 levels of α+β: the starting objective is a poor guide to
+	// which basin holds the global minimum).
+	gridRestarts = 15
 	// exactTol is the largest probability error of an exactly determined
 	// (two-pair) fit after the root-finding polish.
 	exactTol = 1e-12
@@ -187,11 +194,23 @@ const (
 func fitCumulative(u, p []float64) (d Beta, sse float64, resid []float64, err error) {
 	q := &lsq{u: u, p: p, r: make([]float64, len(u)), rh: make([]float64, len(u))}
 	best, bestF := q.fitFrom(q.momentStart())
-	if !q.acceptable(best) {
-		for _, th := range q.gridStarts(gridRestarts) {
+	try := func(starts [][2]float64) {
+		for _, th := range starts {
 			if x, f := q.fitFrom(th); f < bestF {
 				best, bestF = x, f
 			}
+			if q.exactlyDetermined() && q.acceptable(best, exactAccept) {
+				return
+			}
+		}
+	}
+	if !q.acceptable(best, closeFit) {
+		// Neighbouring basins lie mostly along α+β at the same mean.
+		m, ess := math.Exp(best[0]), math.Exp(best[0])+math.Exp(best[1])
+		m /= ess
+		try([][2]float64{clampBox(logShape(m, ess*30)), clampBox(logShape(m, ess/30))})
+		if !q.acceptable(best, PoorFitThreshold) {
+			try(q.gridStarts(gridRestarts))
 		}
 	}
 	d = Beta{Alpha: math.Exp(best[0]), Beta: math.Exp(best[1])}
@@ -221,15 +240,15 @@ func (q *lsq) fitFrom(th0 [2]float64) ([2]float64, float64) {
 	return x, f
 }
 
-// acceptable reports whether the fit from the moment-based start is good
-// enough to skip the further starts: exact for two pairs, and otherwise a
-// largest probability error of at most closeFit. The rule was checked
-// against the full grid search on random judgements (TestFitFastPath).
-func (q *lsq) acceptable(th [2]float64) bool {
+// acceptable reports whether a fit is good enough to skip further
+// starts: exact (exactAccept) for two pairs, and otherwise a largest
+// probability error of at most tol. The rule was checked against an
+// exhaustive search on random judgements (TestFitFastPath).
+func (q *lsq) acceptable(th [2]float64, tol float64) bool {
 	if q.exactlyDetermined() {
 		return q.maxAbsResid(th[:]) <= exactAccept
 	}
-	return q.maxAbsResid(th[:]) <= closeFit
+	return q.maxAbsResid(th[:]) <= tol
 }
 
 // lsq is the least-squares problem in θ = (log α, log β), with the
@@ -487,10 +506,11 @@ func (q *lsq) medianGuess() float64 {
 	return 0.5
 }
 
-// gridStarts returns the k best points, by the objective, of a
-// deterministic grid of further starts: α+β log-spaced from 0.3 to 1e5 and
-// the mean at each stated point, between neighbouring points and beyond
-// the outermost ones.
+// gridStarts returns up to k further starts from a deterministic grid:
+// α+β log-spaced from 0.01 to 1e6 and the mean at each stated point,
+// between neighbouring points and beyond the outermost ones. For
+// diversity it keeps the best mean of each α+β level and returns the k
+// best of those, best first.
 func (q *lsq) gridStarts(k int) [][2]float64 {
 	means := make([]float64, 0, 2*len(q.u)+1)
 	prev := 0.0
@@ -504,22 +524,23 @@ func (q *lsq) gridStarts(k int) [][2]float64 {
 		f  float64
 	}
 	var pts []pt
-	for e := math.Log(0.3); e <= math.Log(1e5)+1e-9; e += math.Log(1e5/0.3) / 9 {
+	const levels = 15
+	lo, hi := math.Log(0.01), math.Log(1e6)
+	for l := 0; l < levels; l++ {
+		ess := math.Exp(lo + (hi-lo)*float64(l)/(levels-1))
+		best := pt{f: math.Inf(1)}
 		for _, m := range means {
-			th := clampBox(logShape(m, math.Exp(e)))
-			pts = append(pts, pt{th, q.sse(th[:])})
-		}
-	}
-	out := make([][2]float64, 0, k)
-	for len(out) < k && len(pts) > 0 {
-		bi := 0
-		for i := range pts {
-			if pts[i].f < pts[bi].f {
-				bi = i
+			th := clampBox(logShape(m, ess))
+			if f := q.sse(th[:]); f < best.f {
+				best = pt{th, f}
 			}
 		}
-		out = append(out, pts[bi].th)
-		pts = append(pts[:bi], pts[bi+1:]...)
+		pts = append(pts, best)
+	}
+	sort.SliceStable(pts, func(a, b int) bool { return pts[a].f < pts[b].f })
+	out := make([][2]float64, 0, k)
+	for i := 0; i < k && i < len(pts); i++ {
+		out = append(out, pts[i].th)
 	}
 	return out
 }

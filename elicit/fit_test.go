@@ -1,7 +1,11 @@
 package elicit
 
 import (
+	"encoding/json"
+	"errors"
 	"math"
+	"math/rand/v2"
+	"sort"
 	"testing"
 )
 
@@ -21,17 +25,317 @@ func TestFitAgainstR(t *testing.T) {
 			t.Errorf("%s: %v", r.name, err)
 			continue
 		}
-		t.Logf("%s: ours Beta(%.6g, %.6g) sse %.6g; R Beta(%.6g, %.6g) sse %.6g", r.name, f.Dist.Alpha, f.Dist.Beta.Beta, f.SSE, r.alpha, r.beta, r.value)
 		if !(f.SSE <= r.value+1e-6) {
-			t.Errorf("%s: objective %.10g, R's %.10g", r.name, f.SSE, r.value)
+			t.Errorf("%s: objective %.10g, R's %.10g (ours Beta(%g, %g), R's Beta(%g, %g))",
+				r.name, f.SSE, r.value, f.Dist.Alpha, f.Dist.Beta.Beta, r.alpha, r.beta)
 		}
 		if len(j.Probs) == 2 && !(f.MaxProbError <= 1e-9) {
 			t.Errorf("%s: two pairs must be matched exactly, max prob error %g", r.name, f.MaxProbError)
 		}
+		checkFitReport(t, r.name, j, f)
 	}
 	if n < 6 {
 		t.Fatalf("only %d fits in the reference table", n)
 	}
 }
 
-var _ = math.Abs
+// checkFitReport checks that every reported number of a fit agrees with
+// the fitted distribution and is finite.
+func checkFitReport(t *testing.T, name string, j Judgement, f Fit) {
+	t.Helper()
+	d := f.Dist
+	if d.Lower != j.Lower || d.Upper != j.Upper {
+		t.Errorf("%s: bounds [%g, %g], want [%g, %g]", name, d.Lower, d.Upper, j.Lower, j.Upper)
+	}
+	sse, maxErr := 0.0, 0.0
+	for i, p := range j.Probs {
+		if f.Probs[i] != p || f.Stated[i] != j.Values[i] {
+			t.Errorf("%s: probs/stated not copied", name)
+		}
+		e := d.CDF(j.Values[i]) - p
+		if math.Abs(f.ProbErrors[i]-e) > 1e-12 {
+			t.Errorf("%s: prob_errors[%d] = %g, F(x)-p = %g", name, i, f.ProbErrors[i], e)
+		}
+		sse += e * e
+		maxErr = math.Max(maxErr, math.Abs(e))
+		if q := d.Quantile(p); !(math.Abs(f.Fitted[i]-q) <= 1e-9*math.Max(math.Abs(q), d.Upper-d.Lower)) {
+			t.Errorf("%s: fitted[%d] = %.15g, Quantile = %.15g", name, i, f.Fitted[i], q)
+		}
+	}
+	if math.Abs(f.SSE-sse) > 1e-12 || math.Abs(f.MaxProbError-maxErr) > 1e-12 {
+		t.Errorf("%s: sse %g max %g, recomputed %g %g", name, f.SSE, f.MaxProbError, sse, maxErr)
+	}
+	for k, p := range []float64{0.05, 0.5, 0.95} {
+		if q := d.Quantile(p); !(math.Abs(f.Percentiles[k]-q) <= 1e-9*math.Max(math.Abs(q), d.Upper-d.Lower)) {
+			t.Errorf("%s: percentiles[%d] = %g, Quantile(%g) = %g", name, k, f.Percentiles[k], p, q)
+		}
+	}
+	checkFinite(t, name, f)
+}
+
+func checkFinite(t *testing.T, name string, f Fit) {
+	t.Helper()
+	nums := []float64{f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper, f.SSE, f.MaxProbError}
+	nums = append(nums, f.Fitted...)
+	nums = append(nums, f.ProbErrors...)
+	nums = append(nums, f.Percentiles[:]...)
+	for _, v := range nums {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			t.Fatalf("%s: non-finite number in fit %+v", name, f)
+		}
+	}
+	if f.Warnings == nil {
+		t.Errorf("%s: warnings must be an empty list, not nil", name)
+	}
+}
+
+func warningCodes(f Fit) map[WarningCode]bool {
+	m := map[WarningCode]bool{}
+	for _, w := range f.Warnings {
+		if w.Message == "" {
+			panic("warning without a message")
+		}
+		m[w.Code] = true
+	}
+	return m
+}
+
+// TestFitWarnings checks each warning rule on judgements of our own
+// (invented) whose fits fall on either side of it.
+func TestFitWarnings(t *testing.T) {
+	cases := []struct {
+		name string
+		j    Judgement
+		want []WarningCode
+	}{
+		{"ordinary", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.01, 0.04, 0.12}, 0, 1}, nil},
+		{"u shaped", Judgement{[]float64{0.25, 0.5, 0.75}, []float64{0.02, 0.5, 0.98}, 0, 1}, []WarningCode{WarnUShaped}},
+		{"j shaped low", Judgement{[]float64{0.1, 0.5, 0.9}, []float64{0.001, 0.02, 0.15}, 0, 1}, []WarningCode{WarnJShaped}},
+		{"j shaped high", Judgement{[]float64{0.1, 0.5, 0.9}, []float64{0.85, 0.98, 0.999}, 0, 1}, []WarningCode{WarnJShaped}},
+		{"near certainty", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.28, 0.30, 0.32}, 0, 1}, []WarningCode{WarnNearCertainty}},
+		{"poor fit", Judgement{[]float64{0.25, 0.5, 0.75}, []float64{0.1, 0.11, 0.9}, 0, 1}, []WarningCode{WarnUShaped, WarnPoorFit}},
+	}
+	for _, c := range cases {
+		f, err := FitQuantiles(c.j)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		got := warningCodes(f)
+		if len(got) != len(c.want) {
+			t.Errorf("%s: warnings %v, want %v (Beta(%g, %g), max error %g)", c.name, f.Warnings, c.want, f.Dist.Alpha, f.Dist.Beta.Beta, f.MaxProbError)
+		}
+		for _, w := range c.want {
+			if !got[w] {
+				t.Errorf("%s: missing warning %s in %v", c.name, w, f.Warnings)
+			}
+		}
+	}
+}
+
+// TestFitWarningRules checks the thresholds of the warning rules directly.
+func TestFitWarningRules(t *testing.T) {
+	cases := []struct {
+		a, b, maxErr float64
+		want         []WarningCode
+	}{
+		{0.5, 0.5, 0, []WarningCode{WarnUShaped}},
+		{0.5, 1, 0, []WarningCode{WarnJShaped}},
+		{1, 0.5, 0, []WarningCode{WarnJShaped}},
+		{1, 1, 0, nil},
+		{2, 3, PoorFitThreshold, nil},
+		{2, 3, PoorFitThreshold + 1e-9, []WarningCode{WarnPoorFit}},
+		{500, 500, 0, nil},
+		{500, 500.5, 0, []WarningCode{WarnNearCertainty}},
+	}
+	for _, c := range cases {
+		w := fitWarnings(Beta{c.a, c.b}, c.maxErr)
+		got := warningCodes(Fit{Warnings: w})
+		if len(got) != len(c.want) {
+			t.Errorf("Beta(%g,%g) err %g: %v, want %v", c.a, c.b, c.maxErr, w, c.want)
+		}
+		for _, code := range c.want {
+			if !got[code] {
+				t.Errorf("Beta(%g,%g) err %g: missing %s", c.a, c.b, c.maxErr, code)
+			}
+		}
+	}
+}
+
+// TestFitTwoPairsExact: with two pairs a Beta matches both exactly. The
+// check is against Beta quantiles computed from known shapes, so the
+// fit must recover the shapes too.
+func TestFitTwoPairsExact(t *testing.T) {
+	for _, d := range []Beta{{2, 5}, {0.3, 12}, {40, 3}, {1.5, 3000}, {700, 800}, {0.2, 0.4}} {
+		for _, ps := range [][]float64{{0.25, 0.75}, {0.05, 0.95}, {0.5, 0.9}} {
+			j := Judgement{Probs: ps, Values: []float64{d.Quantile(ps[0]), d.Quantile(ps[1])}, Lower: 0, Upper: 1}
+			f, err := FitQuantiles(j)
+			if err != nil {
+				t.Errorf("%v at %v: %v", d, ps, err)
+				continue
+			}
+			if !(f.MaxProbError <= 1e-9) {
+				t.Errorf("%v at %v: max prob error %g", d, ps, f.MaxProbError)
+			}
+			if math.Abs(f.Dist.Alpha/d.Alpha-1) > 1e-5 || math.Abs(f.Dist.Beta.Beta/d.Beta-1) > 1e-5 {
+				t.Errorf("%v at %v: fitted Beta(%g, %g)", d, ps, f.Dist.Alpha, f.Dist.Beta.Beta)
+			}
+		}
+	}
+}
+
+// TestFitFailsRatherThanGuess: judgements no Beta in the search range can
+// match give ErrFitFailed, never a made-up fit.
+func TestFitFailsRatherThanGuess(t *testing.T) {
+	for _, j := range []Judgement{
+		{[]float64{0.01, 0.02}, []float64{0.5, 0.5000001}, 0, 1},
+		{[]float64{0.1, 0.9}, []float64{0.5, 0.5000001}, 0, 1},
+		{[]float64{0.5, 0.9}, []float64{1e-300, 1e-200}, 0, 1},
+	} {
+		f, err := FitQuantiles(j)
+		if !errors.Is(err, ErrFitFailed) {
+			t.Errorf("%v: want ErrFitFailed, got %v (fit %+v)", j, err, f.Dist)
+		}
+	}
+}
+
+// TestFitFastPath checks the rule that skips further starts once the fit
+// from the moment-based start misses no probability by more than
+// PoorFitThreshold. Judgements are drawn as an expert might give them:
+// the quantiles of a random Beta (α, β log-uniform on [0.2, 5000]) at
+// random probabilities, each value moved by noise on the logit scale.
+// FitQuantiles must reach the objective of an exhaustive search, to 1e-7.
+func TestFitFastPath(t *testing.T) {
+	rng := rand.New(rand.NewPCG(7, 11))
+	logU := func(lo, hi float64) float64 { return math.Exp(math.Log(lo) + rng.Float64()*math.Log(hi/lo)) }
+	tried := 0
+	for k := 0; k < 250; k++ {
+		d := Beta{logU(0.2, 5000), logU(0.2, 5000)}
+		n := 3 + rng.IntN(3)
+		ps := make([]float64, n)
+		for i := range ps {
+			ps[i] = 0.02 + 0.96*rng.Float64()
+		}
+		sort.Float64s(ps)
+		us := make([]float64, n)
+		for i, p := range ps {
+			x := d.Quantile(p)
+			l := math.Log(x/(1-x)) + 0.3*rng.NormFloat64()
+			us[i] = 1 / (1 + math.Exp(-l))
+		}
+		sort.Float64s(us)
+		j := Judgement{Probs: ps, Values: us, Lower: 0, Upper: 1}
+		if j.Validate() != nil {
+			continue
+		}
+		f, err := FitQuantiles(j)
+		if err != nil {
+			t.Errorf("%v %v: %v", ps, us, err)
+			continue
+		}
+		tried++
+		if full := exhaustiveFit(j); f.SSE > full+1e-7 {
+			t.Errorf("%v %v: objective %g, exhaustive search %g", ps, us, f.SSE, full)
+		}
+		checkFitReport(t, "random", j, f)
+	}
+	if tried < 200 {
+		t.Errorf("only %d random judgements fitted", tried)
+	}
+}
+
+// TestFitTwoPairsSearch draws erratic two-pair judgements (values crowded
+// at either end of [0, 1], probabilities anywhere): whenever an exhaustive
+// search finds an exact match, FitQuantiles must find one too, and
+// otherwise it must refuse with ErrFitFailed.
+func TestFitTwoPairsSearch(t *testing.T) {
+	rng := rand.New(rand.NewPCG(5, 3))
+	for k := 0; k < 150; k++ {
+		ps := []float64{0.01 + 0.98*rng.Float64(), 0.01 + 0.98*rng.Float64()}
+		us := make([]float64, 2)
+		for i := range us {
+			switch rng.IntN(3) {
+			case 0:
+				us[i] = math.Exp(-12 * rng.Float64())
+			case 1:
+				us[i] = 1 - math.Exp(-12*rng.Float64())
+			default:
+				us[i] = rng.Float64()
+			}
+		}
+		sort.Float64s(ps)
+		sort.Float64s(us)
+		j := Judgement{Probs: ps, Values: us, Lower: 0, Upper: 1}
+		if j.Validate() != nil {
+			continue
+		}
+		f, err := FitQuantiles(j)
+		full := exhaustiveFit(j)
+		switch {
+		case err == nil:
+			if !(f.MaxProbError <= 1e-9) {
+				t.Errorf("%v %v: max prob error %g", ps, us, f.MaxProbError)
+			}
+			checkFitReport(t, "two pairs", j, f)
+		case !errors.Is(err, ErrFitFailed):
+			t.Errorf("%v %v: %v", ps, us, err)
+		case full < 1e-18:
+			t.Errorf("%v %v: refused, but an exhaustive search matches exactly (objective %g): %v", ps, us, full, err)
+		}
+	}
+}
+
+// TestFitJSON pins the JSON keys of Fit, a public contract of the CLI and
+// the export.
+func TestFitJSON(t *testing.T) {
+	f, err := FitQuantiles(Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.01, 0.04, 0.12}, 0, 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, err := json.Marshal(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var m map[string]json.RawMessage
+	if err := json.Unmarshal(b, &m); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"dist", "sse", "probs", "stated", "fitted", "prob_errors", "max_prob_error", "percentiles", "warnings"} {
+		if _, ok := m[k]; !ok {
+			t.Errorf("fit JSON lacks %q: %s", k, b)
+		}
+	}
+	var dist map[string]float64
+	if err := json.Unmarshal(m["dist"], &dist); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"alpha", "beta", "lower", "upper"} {
+		if _, ok := dist[k]; !ok {
+			t.Errorf("dist JSON lacks %q: %s", k, m["dist"])
+		}
+	}
+	if string(m["warnings"]) != "[]" {
+		t.Errorf("warnings = %s, want []", m["warnings"])
+	}
+}
+
+// exhaustiveFit is the smallest objective found by local fits from every
+// point of a fine grid: means at 1e-4, 0.01, 0.05, 0.1, ..., 0.95, 0.99,
+// 1−1e-4 and at the stated points, α+β from 1e-3 to 1e7.
+func exhaustiveFit(j Judgement) float64 {
+	u := j.unit()
+	q := &lsq{u: u, p: j.Probs, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+	means := append([]float64{1e-4, 0.01, 0.99, 1 - 1e-4}, u...)
+	for m := 0.05; m < 0.96; m += 0.075 {
+		means = append(means, m)
+	}
+	best := math.Inf(1)
+	for e := -3.0; e <= 7; e += 0.5 {
+		for _, m := range means {
+			th := clampBox(logShape(m, math.Pow(10, e)))
+			if _, f := q.fitFrom(th); f < best {
+				best = f
+			}
+		}
+	}
+	return best
+}
