@@ -1,0 +1,207 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// MaxPredictiveTrials is the largest planned number of trials for which
+// PriorPredictive and ConflictCheck list the whole distribution of
+// successes (one float64 per count).
+const MaxPredictiveTrials = 1_000_000
+
+// Posterior is the conjugate update of a Beta prior by binomial data,
+// s successes in n trials:
+//
+//	Beta(α, β) prior, s | θ ~ Binomial(n, θ)  ⇒  θ | s ~ Beta(α + s, β + n − s)
+//
+// (Gelman et al. 2013, "Bayesian Data Analysis", 3rd ed., §2.4). It needs
+// a valid prior and 0 ≤ s ≤ n.
+func Posterior(prior Beta, successes, trials int) (Beta, error) {
+	if err := checkData(prior, successes, trials); err != nil {
+		return Beta{}, err
+	}
+	return Beta{Alpha: prior.Alpha + float64(successes), Beta: prior.Beta + float64(trials-successes)}, nil
+}
+
+func checkData(prior Beta, successes, trials int) error {
+	if err := prior.Validate(); err != nil {
+		return err
+	}
+	if trials < 0 {
+		return inputErr("trials", RuleNonNegative, "got %d", trials)
+	}
+	if successes < 0 {
+		return inputErr("successes", RuleNonNegative, "got %d", successes)
+	}
+	if successes > trials {
+		return inputErr("successes", RuleCountRange, "%d successes in %d trials", successes, trials)
+	}
+	return nil
+}
+
+// checkLevel checks a credible level: finite and strictly inside (0, 1).
+func checkLevel(level float64) error {
+	if math.IsNaN(level) || math.IsInf(level, 0) {
+		return inputErr("level", RuleFinite, "got %v", level)
+	}
+	if !(level > 0 && level < 1) {
+		return inputErr("level", RuleProbOpen, "got %v", level)
+	}
+	return nil
+}
+
+// EqualTailed is the equal-tailed credible interval with coverage level:
+// the quantiles at (1 − level)/2 and (1 + level)/2 (Gelman et al. 2013,
+// BDA3 §2.3, "central posterior interval").
+func EqualTailed(d Beta, level float64) (lo, hi float64, err error) {
+	if err := d.Validate(); err != nil {
+		return 0, 0, err
+	}
+	if err := checkLevel(level); err != nil {
+		return 0, 0, err
+	}
+	tail := (1 - level) / 2
+	return d.Quantile(tail), d.Quantile(1 - tail), nil
+}
+
+// HDI is the highest-density interval with coverage level: the shortest
+// interval [lo, hi] with F(hi) − F(lo) = level (Box & Tiao 1973, "Bayesian
+// Inference in Statistical Analysis", §2.8; Gelman et al. 2013, BDA3
+// §2.3). By the shape of the density:
+//
+//   - α > 1 and β > 1 (unimodal, log-concave): the interval whose ends
+//     have equal density, f(lo) = f(hi), the first-order condition for the
+//     least width Q(t + level) − Q(t) over the lower tail mass t. With a
+//     log-concave density log f(Q(t + level)) − log f(Q(t)) decreases in t,
+//     so its root is found by bisection on t in [0, 1 − level].
+//   - density non-increasing (α ≤ 1 ≤ β, not both 1): [0, Q(level)].
+//   - density non-decreasing (β ≤ 1 ≤ α, not both 1): [Q(1 − level), 1].
+//   - Beta(1, 1), uniform: every interval of width level is shortest; HDI
+//     returns the central one.
+//   - α < 1 and β < 1 (U-shaped): the highest-density region is two
+//     pieces against the bounds, not an interval; HDI returns the shorter
+//     of [0, Q(level)] and [Q(1 − level), 1], the shortest single
+//     interval, since the width is then concave in t.
+func HDI(d Beta, level float64) (lo, hi float64, err error) {
+	if err := d.Validate(); err != nil {
+		return 0, 0, err
+	}
+	if err := checkLevel(level); err != nil {
+		return 0, 0, err
+	}
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a == 1 && b == 1:
+		return (1 - level) / 2, (1 + level) / 2, nil
+	case a <= 1 && b >= 1:
+		return 0, d.Quantile(level), nil
+	case b <= 1 && a >= 1:
+		return d.Quantile(1 - level), 1, nil
+	case a < 1 && b < 1:
+		left, right := d.Quantile(level), d.Quantile(1-level)
+		if left <= 1-right {
+			return 0, left, nil
+		}
+		return right, 1, nil
+	}
+	// log f up to its constant; −Inf at the bounds.
+	logf := func(x float64) float64 { return (a-1)*math.Log(x) + (b-1)*math.Log1p(-x) }
+	// The bisection on t is geometric near 0 (see bisect), because for α
+	// just above 1 the lower tail mass t of the HDI can be below 1e-15.
+	tLo, tHi := 0.0, 1-level
+	for i := 0; i < 2000 && !converged(tLo, tHi); i++ {
+		t := bisect(tLo, tHi)
+		if logf(d.Quantile(t+level)) > logf(d.Quantile(t)) {
+			tLo = t
+		} else {
+			tHi = t
+		}
+	}
+	t := 0.5 * (tLo + tHi)
+	return d.Quantile(t), d.Quantile(t + level), nil
+}
+
+// PriorPredictive is the prior predictive distribution of the number of
+// successes Y in n planned trials, the beta-binomial pmf
+//
+//	P(Y = k) = C(n, k) B(k + α, n − k + β) / B(α, β),  k = 0…n
+//
+// (Gelman et al. 2013, BDA3 §2.4 and appendix A; Johnson, Kemp & Kotz
+// 2005, "Univariate Discrete Distributions", 3rd ed., §6.7.2), computed in
+// logs with math.Lgamma and mathext.Lbeta. It needs 0 ≤ n ≤
+// MaxPredictiveTrials.
+func PriorPredictive(prior Beta, n int) ([]float64, error) {
+	if err := prior.Validate(); err != nil {
+		return nil, err
+	}
+	if n < 0 {
+		return nil, inputErr("trials", RuleNonNegative, "got %d", n)
+	}
+	if n > MaxPredictiveTrials {
+		return nil, inputErr("trials", RuleCountRange, "%d is above the limit %d", n, MaxPredictiveTrials)
+	}
+	a, b := prior.Alpha, prior.Beta
+	lgN, _ := math.Lgamma(float64(n) + 1)
+	lbPrior := mathext.Lbeta(a, b)
+	pmf := make([]float64, n+1)
+	for k := range pmf {
+		fk, fnk := float64(k), float64(n-k)
+		lgk, _ := math.Lgamma(fk + 1)
+		lgnk, _ := math.Lgamma(fnk + 1)
+		pmf[k] = math.Exp(lgN - lgk - lgnk + mathext.Lbeta(fk+a, fnk+b) - lbPrior)
+	}
+	return pmf, nil
+}
+
+// Conflict is a prior-data conflict check: where the observed number of
+// successes falls in the prior predictive (beta-binomial) distribution of
+// Y, the successes in the same number of trials.
+type Conflict struct {
+	Successes int `json:"successes"`
+	Trials    int `json:"trials"`
+	// Lower is P(Y ≤ s) and Upper is P(Y ≥ s) under the prior predictive.
+	Lower float64 `json:"p_lower"`
+	Upper float64 `json:"p_upper"`
+	// TwoSided is min(1, 2·min(Lower, Upper)), the doubled smaller tail.
+	TwoSided float64 `json:"p_two_sided"`
+}
+
+// ConflictCheck is the prior predictive check of Box (1980, "Sampling and
+// Bayes' inference in scientific modelling and robustness", J. R. Statist.
+// Soc. A 143: 383–430) for binomial data: the tail probabilities of the
+// observed count s under the prior predictive distribution of successes in
+// n trials (see PriorPredictive); Evans & Moshonov (2006, "Checking for
+// prior-data conflict", Bayesian Analysis 1: 893–914) discuss the idea.
+// A small tail probability says the data are surprising under the prior.
+// Convention: both one-sided tails include the observed count, and the
+// two-sided value doubles the smaller one, capped at 1 (common practice
+// for discrete tail probabilities; Box's own measure orders outcomes by
+// predictive density instead). Each tail is summed from its own end, so a
+// small tail keeps its relative precision.
+func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
+	if err := checkData(prior, successes, trials); err != nil {
+		return Conflict{}, err
+	}
+	pmf, err := PriorPredictive(prior, trials)
+	if err != nil {
+		return Conflict{}, err
+	}
+	c := Conflict{Successes: successes, Trials: trials}
+	for k := 0; k <= successes; k++ {
+		c.Lower += pmf[k]
+	}
+	for k := trials; k >= successes; k-- {
+		c.Upper += pmf[k]
+	}
+	c.Lower, c.Upper = math.Min(c.Lower, 1), math.Min(c.Upper, 1)
+	c.TwoSided = math.Min(1, 2*math.Min(c.Lower, c.Upper))
+	return c, nil
+}
+
+// String is a one-line summary, e.g. for the command line.
+func (c Conflict) String() string {
+	return fmt.Sprintf("P(Y ≤ %d) = %.4g, P(Y ≥ %d) = %.4g, two-sided %.4g", c.Successes, c.Lower, c.Successes, c.Upper, c.TwoSided)
+}
