@@ -116,8 +116,9 @@ type historyRow struct {
 }
 
 // chance says a probability the way people say odds: "1 in 20" when
-// 1/p is close to a whole number, "about 1 in 39" for small
-// probabilities, otherwise a percentage.
+// p is within 0.2% of 1/N for a whole N of at least 3, "about 1 in 39" for
+// other probabilities below 0.2, otherwise a percentage ("a 47.5%
+// chance"), which reads better than "1 in 2" for a value near a half.
 func chance(p float64) string {
 	switch {
 	case math.IsNaN(p) || math.IsInf(p, 0) || p < 0 || p > 1:
@@ -132,7 +133,7 @@ func chance(p float64) string {
 	n := 1 / p
 	r := math.Round(n)
 	switch {
-	case r >= 2 && math.Abs(n-r) <= 0.02*n:
+	case r >= 3 && math.Abs(p*r-1) <= 0.002:
 		return fmt.Sprintf("a 1 in %d chance", int(r))
 	case p < 0.2:
 		return fmt.Sprintf("about a 1 in %d chance", int(r))

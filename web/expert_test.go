@@ -474,3 +474,37 @@ func TestRoundTwoPanelIsAnonymous(t *testing.T) {
 		t.Errorf("round 2 revision recorded as round %d", last.Round)
 	}
 }
+
+func TestChanceReadsLikeOdds(t *testing.T) {
+	cases := []struct {
+		p    float64
+		want string
+	}{
+		{0.05, "a 1 in 20 chance"},
+		{0.1, "a 1 in 10 chance"},
+		{0.25, "a 1 in 4 chance"},
+		{1.0 / 3, "a 1 in 3 chance"},
+		{0.0258, "about a 1 in 39 chance"},
+		{0.4, "a 40% chance"},
+		{0.508, "a 50.8% chance"},
+		{0.0004, "less than 1 in 1000"},
+		{0, "no chance"},
+	}
+	for _, c := range cases {
+		if got := chance(c.p); got != c.want {
+			t.Errorf("chance(%v) = %q, want %q", c.p, got, c.want)
+		}
+	}
+	for _, c := range []struct {
+		p, x float64
+		want string
+	}{
+		{0.05, 0.012, "You are saying there is a 1 in 20 chance the value is below 0.012 per demand."},
+		{0.95, 0.3, "You are saying there is a 1 in 20 chance the value is above 0.3 per demand."},
+		{0.5, 0.1, "You are saying the value is as likely to be below 0.1 per demand as above it."},
+	} {
+		if got := readBack(c.p, c.x, "per demand"); got != c.want {
+			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
+		}
+	}
+}
