@@ -512,6 +512,7 @@ func (r Record) Validate() error {
 	}
 	questions := map[int64]Question{}
 	seenQ := map[int64]bool{}
+	positions := map[int]bool{}
 	for i, q := range r.Questions {
 		p := fmt.Sprintf("questions[%d]", i)
 		if err := checkID(p+".id", q.ID, seenQ); err != nil {
@@ -523,6 +524,10 @@ func (r Record) Validate() error {
 		if err := checkQuestion(p, q.Question); err != nil {
 			return err
 		}
+		if positions[q.Position] {
+			return inputErr(p+".position", RuleUnknown, "position %d appears twice", q.Position)
+		}
+		positions[q.Position] = true
 		seenQ[q.ID] = true
 		questions[q.ID] = q.Question
 		for j, ap := range q.PriorHistory {

@@ -330,6 +330,7 @@ func TestValidateRecord(t *testing.T) {
 		{"duplicate expert", func(r *Record) { r.Experts[1].ID = 21 }, "experts[1].id", RuleUnknown},
 		{"question bounds", func(r *Record) { r.Questions[0].Upper = -1 }, "questions[0].lower", RuleBoundsOrder},
 		{"question probs", func(r *Record) { r.Questions[0].Probs = []float64{0.5, 0.05, 0.95} }, "questions[0].probs[1]", RuleProbIncreasing},
+		{"duplicate position", func(r *Record) { r.Questions[1].Position = 1 }, "questions[1].position", RuleUnknown},
 		{"question format", func(r *Record) { r.Questions[1].Format = "guess" }, "questions[1].format", RuleUnknown},
 		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", RuleValueInBounds},
 		{"answer values", func(r *Record) { r.Revisions[1].Answer.Values[1] = 0.01 }, "revisions[1].answer.values[1]", RuleValueIncreasing},

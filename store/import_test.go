@@ -223,3 +223,80 @@ func TestRecordWhileSaving(t *testing.T) {
 		}
 	}
 }
+
+// TestImportRollsBack makes the last step of an import fail inside the
+// database and checks that the steps before it are undone.
+func TestImportRollsBack(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	rec, err := src.Record(ctx, p.w.ID, exportTime)
+	must(t, err)
+	dst := newDB(t)
+	// The writer pool holds one connection, so a TEMP trigger on it sees
+	// every write.
+	_, err = dst.w.ExecContext(ctx, `CREATE TEMP TRIGGER fail_events BEFORE INSERT ON events
+		BEGIN SELECT RAISE(ABORT, 'injected failure'); END`)
+	must(t, err)
+	if _, err := dst.Import(ctx, rec); err == nil {
+		t.Fatal("import succeeded despite the failing trigger")
+	}
+	for _, table := range []string{"workshops", "questions", "experts", "revisions", "weight_sets", "agreed_priors"} {
+		var n int
+		must(t, dst.r.QueryRowContext(ctx, "SELECT COUNT(*) FROM "+table).Scan(&n))
+		if n != 0 {
+			t.Errorf("failed import left %d rows in %s", n, table)
+		}
+	}
+}
+
+// TestBackupWhileSaving copies the database while saves go on: the copy
+// is sound and holds an unbroken prefix of the revisions.
+func TestBackupWhileSaving(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	stop := make(chan struct{})
+	done := make(chan error)
+	started := make(chan struct{})
+	go func() {
+		for n := 0; ; n++ {
+			if n == 5 {
+				close(started)
+			}
+			select {
+			case <-stop:
+				done <- nil
+				return
+			default:
+			}
+			r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+			if err := db.SaveRevision(ctx, &r); err != nil {
+				done <- err
+				return
+			}
+		}
+	}()
+	dest := filepath.Join(t.TempDir(), "live.db")
+	<-started // some saves have landed; more are on their way
+	backupErr := db.Backup(ctx, dest)
+	close(stop)
+	must(t, <-done)
+	must(t, backupErr)
+	cp, err := Open(dest)
+	must(t, err)
+	defer cp.Close()
+	if v, err := cp.IntegrityCheck(ctx); v != "ok" || err != nil {
+		t.Fatalf("integrity_check = %q, %v", v, err)
+	}
+	rs, err := cp.Revisions(ctx, p.w.ID)
+	must(t, err)
+	if len(rs) < 5 {
+		t.Fatalf("copy holds %d revisions, want at least the 5 saved before it", len(rs))
+	}
+	for i, r := range rs {
+		if r.ID != rs[0].ID+int64(i) {
+			t.Fatalf("copy's revisions skip from %d to %d", rs[i-1].ID, r.ID)
+		}
+	}
+}
