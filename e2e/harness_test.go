@@ -1,0 +1,330 @@
+package e2e
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"net"
+	"net/http"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/runtime"
+	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/store"
+	"github.com/parley-elicit/parley/web"
+)
+
+// chromiumPath is Debian's chromium, which .ci/run installs.
+const chromiumPath = "/usr/bin/chromium"
+
+// Time limits. Every browser step runs under stepTimeout so a broken page
+// fails the test instead of hanging it; the whole browser lives under
+// browserTimeout.
+const (
+	stepTimeout    = 15 * time.Second
+	browserTimeout = 150 * time.Second
+)
+
+// Widths of the screenshots: a laptop on a projector and a phone.
+const (
+	desktopWidth  = 1280
+	desktopHeight = 900
+	phoneWidth    = 390
+	phoneHeight   = 844
+)
+
+// site is Parley running for one test: the real server on a loopback
+// listener over a real SQLite file.
+type site struct {
+	URL    string    // "http://127.0.0.1:PORT"
+	DB     *store.DB // the same file the server writes, for the test's own reads
+	SignIn string    // the facilitator's one-time sign-in address
+}
+
+// startSite opens a new database in a temp dir, issues the facilitator
+// secret the way `parley serve` does, and serves it on 127.0.0.1:0.
+func startSite(t *testing.T) *site {
+	t.Helper()
+	db, err := store.Open(filepath.Join(t.TempDir(), "parley.db"))
+	if err != nil {
+		t.Fatalf("open store: %v", err)
+	}
+	secret, err := web.EnsureFacilitatorSecret(context.Background(), db)
+	if err != nil || secret == "" {
+		t.Fatalf("facilitator secret: %q, %v", secret, err)
+	}
+	srv, err := web.New(db, web.Options{})
+	if err != nil {
+		t.Fatalf("web.New: %v", err)
+	}
+	ln, err := net.Listen("tcp", "127.0.0.1:0")
+	if err != nil {
+		t.Fatalf("listen: %v", err)
+	}
+	hs := &http.Server{Handler: srv.Handler(), ReadHeaderTimeout: 5 * time.Second}
+	done := make(chan error, 1)
+	go func() { done <- hs.Serve(ln) }()
+	t.Cleanup(func() {
+		_ = hs.Close()
+		if err := <-done; err != nil && !errors.Is(err, http.ErrServerClosed) {
+			t.Errorf("serve: %v", err)
+		}
+		_ = db.Close()
+	})
+	base := "http://" + ln.Addr().String()
+	return &site{URL: base, DB: db, SignIn: base + web.SignInPath(secret)}
+}
+
+// browser is one headless Chromium; each person gets their own browser
+// context inside it (own cookies, own storage), like separate devices.
+type browser struct {
+	t    *testing.T
+	root context.Context
+}
+
+// startBrowser starts chromium with the flags this machine's closed
+// network needs. It skips the test, loudly, when chromium is missing.
+func startBrowser(t *testing.T) *browser {
+	t.Helper()
+	if _, err := os.Stat(chromiumPath); err != nil {
+		t.Skipf("SKIPPING BROWSER TESTS: %s not found (%v). Install it with `apt-get install -y chromium`; .ci/run does.", chromiumPath, err)
+	}
+	opts := []chromedp.ExecAllocatorOption{
+		chromedp.ExecPath(chromiumPath),
+		chromedp.Headless,
+		chromedp.NoSandbox, // CI runs as root
+		chromedp.DisableGPU,
+		chromedp.NoFirstRun,
+		chromedp.Flag("no-default-browser-check", true),
+		chromedp.Flag("disable-quic", true),
+		chromedp.Flag("disable-background-networking", true),
+		chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true),
+		chromedp.Flag("disable-extensions", true),
+		chromedp.Flag("disable-dev-shm-usage", true),
+		chromedp.Flag("hide-scrollbars", true),
+		chromedp.Flag("mute-audio", true),
+		chromedp.UserDataDir(t.TempDir()),
+		chromedp.WindowSize(desktopWidth, desktopHeight),
+	}
+	life, cancelLife := context.WithTimeout(context.Background(), browserTimeout)
+	alloc, cancelAlloc := chromedp.NewExecAllocator(life, opts...)
+	root, cancelRoot := chromedp.NewContext(alloc)
+	t.Cleanup(func() { cancelRoot(); cancelAlloc(); cancelLife() })
+	if err := chromedp.Do(root, chromedp.Navigate("about:blank")); err != nil {
+		t.Fatalf("start chromium: %v", err)
+	}
+	return &browser{t: t, root: root}
+}
+
+// person is one participant's browser context and tab.
+type person struct {
+	t    *testing.T
+	name string
+	ctx  context.Context
+
+	mu     sync.Mutex
+	thrown []string // uncaught script errors seen on this person's pages
+}
+
+// person opens a new browser context for name.
+func (b *browser) person(name string) *person {
+	b.t.Helper()
+	ctx, cancel := chromedp.NewContext(b.root, chromedp.WithNewBrowserContext())
+	b.t.Cleanup(cancel)
+	p := &person{t: b.t, name: name, ctx: ctx}
+	// The first run opens the tab; it must not carry a step timeout.
+	if err := chromedp.Do(ctx, chromedp.Navigate("about:blank")); err != nil {
+		b.t.Fatalf("%s: open tab: %v", name, err)
+	}
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*runtime.EventExceptionThrown); ok {
+			p.mu.Lock()
+			d := e.ExceptionDetails
+			msg := fmt.Sprintf("%s (%s:%d)", d.Text, d.URL, d.LineNumber+1)
+			if d.Exception != nil && d.Exception.Description != "" {
+				msg = d.Exception.Description + " " + msg
+			}
+			p.thrown = append(p.thrown, msg)
+			p.mu.Unlock()
+		}
+	}); err != nil {
+		b.t.Fatalf("%s: listen: %v", name, err)
+	}
+	return p
+}
+
+// do runs steps in this person's tab under the step timeout.
+func (p *person) do(what string, steps ...chromedp.Action[chromedp.Void]) {
+	p.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	if err := chromedp.Do(ctx, steps...); err != nil {
+		p.t.Fatalf("%s: %s: %v", p.name, what, err)
+	}
+	p.noScriptErrors(what)
+}
+
+// load runs a step that makes the page navigate (a link, a form's submit
+// button) and waits for the new page; it returns the HTTP status.
+func (p *person) load(what string, step chromedp.Action[chromedp.Void]) int64 {
+	p.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	resp, err := chromedp.RunResponse(ctx, step)
+	if err != nil {
+		p.t.Fatalf("%s: %s: %v", p.name, what, err)
+	}
+	p.noScriptErrors(what)
+	if resp == nil {
+		p.t.Fatalf("%s: %s: no page loaded", p.name, what)
+	}
+	return resp.Status
+}
+
+// open navigates to url and returns the status.
+func (p *person) open(url string) int64 {
+	p.t.Helper()
+	return p.load("open "+url, chromedp.Navigate(url))
+}
+
+// eval evaluates a script expression in the page and decodes its value.
+func eval[T any](p *person, what, expr string) T {
+	p.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	v, err := chromedp.Run(ctx, chromedp.Evaluate[T](expr, chromedp.EvalAwaitPromise))
+	if err != nil {
+		p.t.Fatalf("%s: %s: %v", p.name, what, err)
+	}
+	return v
+}
+
+// text is what a person reads on the page: the body's rendered text.
+func (p *person) text() string {
+	p.t.Helper()
+	return eval[string](p, "read the page", `document.body.innerText`)
+}
+
+// url is the address in this person's address bar.
+func (p *person) url() string {
+	p.t.Helper()
+	return eval[string](p, "read the address", `location.href`)
+}
+
+// sees fails the test unless every phrase is in the page's visible text.
+func (p *person) sees(where string, phrases ...string) {
+	p.t.Helper()
+	body := p.text()
+	for _, s := range phrases {
+		if !strings.Contains(body, s) {
+			p.t.Errorf("%s: %s: page does not show %q; it shows:\n%s", p.name, where, s, clip(body, 3000))
+		}
+	}
+}
+
+// fill replaces the value of the form field named name inside the form
+// matched by formSel, typing it as a person would (so input events fire).
+func (p *person) fill(formSel, name, value string) {
+	p.t.Helper()
+	css := fmt.Sprintf(`%s [name=%q]`, formSel, name)
+	if n := eval[int](p, "clear "+name, fmt.Sprintf(
+		`(() => { const el = document.querySelector(%q); if (!el) return 0; el.value = ""; return 1; })()`, css)); n != 1 {
+		p.t.Fatalf("%s: no field %s on %s", p.name, css, p.url())
+	}
+	p.do("type "+name, chromedp.SendKeys(chromedp.CSS(css), value))
+}
+
+// count is the number of elements matching a CSS selector.
+func (p *person) count(css string) int {
+	p.t.Helper()
+	return eval[int](p, "count "+css, fmt.Sprintf(`document.querySelectorAll(%q).length`, css))
+}
+
+// point is the drawn position of an SVG circle.
+type point struct {
+	X float64 `json:"x"`
+	Y float64 `json:"y"`
+}
+
+// circles reads the positions of the circles matching css, in the SVG's
+// own coordinates.
+func (p *person) circles(css string) []point {
+	p.t.Helper()
+	return eval[[]point](p, "read "+css, fmt.Sprintf(
+		`Array.from(document.querySelectorAll(%q)).map(c => ({x: parseFloat(c.getAttribute("cx")), y: parseFloat(c.getAttribute("cy"))}))`, css))
+}
+
+// noScriptErrors fails when a page script threw.
+func (p *person) noScriptErrors(after string) {
+	p.t.Helper()
+	p.mu.Lock()
+	thrown := p.thrown
+	p.thrown = nil
+	p.mu.Unlock()
+	for _, e := range thrown {
+		p.t.Errorf("%s: after %s: page script threw: %s", p.name, after, e)
+	}
+}
+
+// viewport sets the tab's width and height (CSS pixels).
+func (p *person) viewport(w, h int64, mobile bool) {
+	p.t.Helper()
+	var opts []chromedp.EmulateViewportOption
+	if mobile {
+		opts = append(opts, chromedp.EmulateMobile, chromedp.EmulateTouch)
+	}
+	p.do("set the viewport", chromedp.EmulateViewport(w, h, opts...))
+}
+
+// screenshots is where the scenario's full-page PNGs go.
+type screenshots struct {
+	t   *testing.T
+	dir string
+}
+
+// newScreenshots uses $PARLEY_SCREENSHOTS when set (kept), else a temp
+// folder; either way the path is logged.
+func newScreenshots(t *testing.T) *screenshots {
+	t.Helper()
+	dir := os.Getenv("PARLEY_SCREENSHOTS")
+	if dir == "" {
+		dir = t.TempDir()
+	} else if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatalf("screenshot folder: %v", err)
+	}
+	t.Logf("screenshots of the main pages go to %s", dir)
+	return &screenshots{t: t, dir: dir}
+}
+
+// take writes a full-page PNG of p's current page as name.png.
+func (s *screenshots) take(p *person, name string) {
+	s.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	png, err := chromedp.Run(ctx, chromedp.FullScreenshot(100))
+	if err != nil {
+		s.t.Fatalf("%s: screenshot %s: %v", p.name, name, err)
+	}
+	path := filepath.Join(s.dir, name+".png")
+	if err := os.WriteFile(path, png, 0o644); err != nil {
+		s.t.Fatalf("write %s: %v", path, err)
+	}
+}
+
+// expertLink matches an expert's private link as the roster prints it.
+var expertLink = regexp.MustCompile(`https?://127\.0\.0\.1:\d+/e/[A-Za-z0-9_-]{43}/`)
+
+func clip(s string, n int) string {
+	if len(s) <= n {
+		return s
+	}
+	return s[:n] + "…"
+}
