@@ -176,6 +176,9 @@ func checkBounds(lower, upper float64) error {
 	if !(lower < upper) {
 		return inputErr("lower", RuleBoundsOrder, "lower %v, upper %v", lower, upper)
 	}
+	if math.IsInf(upper-lower, 0) {
+		return inputErr("upper", RuleFinite, "upper − lower overflows: lower %v, upper %v", lower, upper)
+	}
 	return nil
 }
 

@@ -34,6 +34,7 @@ func TestJudgementValidate(t *testing.T) {
 		{"lower NaN", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, nan, 1}, "lower", RuleFinite},
 		{"upper Inf", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 0, inf}, "upper", RuleFinite},
 		{"bounds order", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 1, 0}, "lower", RuleBoundsOrder},
+		{"width overflows", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, -1e308, 1e308}, "upper", RuleFinite},
 		{"length", Judgement{[]float64{0.5, 0.9}, []float64{0.1}, 0, 1}, "values", RuleLengthMatch},
 		{"too few", Judgement{[]float64{0.5}, []float64{0.1}, 0, 1}, "probs", RuleCount},
 		{"too many", Judgement{make([]float64, 10), make([]float64, 10), 0, 1}, "probs", RuleCount},
