@@ -97,7 +97,7 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 		if q.TrueValue != nil {
 			q.TrueValue = ptr(*q.TrueValue)
 		}
-		if err := validateQuestion(q); err != nil {
+		if err := q.Validate(); err != nil {
 			return nil, fmt.Errorf("web: demo question %d: %w", i+1, err)
 		}
 		if err := st.AddQuestion(ctx, &q); err != nil {

@@ -23,6 +23,9 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Post("/experts/{expert}/reissue", s.reissueLink)
 		r.Post("/round", s.changeRound)
 		r.Get("/log", s.eventLog)
+		r.Get("/q/{question}", s.questionPanel)
+		r.Post("/q/{question}/weights", s.setWeights)
+		r.Post("/q/{question}/agree", s.agreePrior)
 	})
 }
 

@@ -13,9 +13,9 @@ var probPresets = []struct {
 	Key, Label string
 	Probs      []float64
 }{
-	{"p05_50_95", "5th, 50th and 95th percentiles", []float64{0.05, 0.5, 0.95}},
-	{"quartiles", "quartiles and median (25th, 50th, 75th)", []float64{0.25, 0.5, 0.75}},
-	{"tertiles", "tertiles and median (33⅓th, 50th, 66⅔th)", []float64{1.0 / 3, 0.5, 2.0 / 3}},
+	{"p05_50_95", "5th, 50th and 95th percentiles", elicit.ProbsDefault},
+	{"quartiles", "quartiles and median (25th, 50th, 75th)", elicit.ProbsQuartiles},
+	{"tertiles", "tertiles and median (33⅓th, 50th, 66⅔th)", elicit.ProbsTertiles},
 	{"custom", "custom probabilities", nil},
 }
 
@@ -61,7 +61,7 @@ func (s *Server) addQuestion(w http.ResponseWriter, r *http.Request) {
 	q := parseQuestion(f)
 	q.WorkshopID = ws.ID
 	if f.OK() {
-		f.Fail(validateQuestion(q), questionAliases)
+		f.Fail(q.Validate(), questionAliases)
 	}
 	if !f.OK() {
 		s.renderPage(w, r, http.StatusUnprocessableEntity, facilitatorMeta(ws, "Add a question", "overview"),
@@ -115,12 +115,4 @@ func parseQuestion(f *Form) elicit.Question {
 		}
 	}
 	return q
-}
-
-// validateQuestion is elicit's judgement of a question.
-func validateQuestion(q elicit.Question) error {
-	if v, ok := any(q).(interface{ Validate() error }); ok {
-		return v.Validate()
-	}
-	return nil
 }

@@ -44,10 +44,7 @@ func (s *Server) routes() http.Handler {
 
 	r.Route("/e/{token}", func(r chi.Router) {
 		r.Use(s.requireExpert)
-		// expert.go (the expert's pages) adds its routes here.
-		if er, ok := any(s).(interface{ expertRoutes(chi.Router) }); ok {
-			er.expertRoutes(r)
-		}
+		s.expertRoutes(r) // expert.go
 	})
 
 	r.Group(func(r chi.Router) {

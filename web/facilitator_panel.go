@@ -1,0 +1,255 @@
+package web
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// expertFitRow is one expert's current judgement on a question and what
+// elicit fitted to it.
+type expertFitRow struct {
+	Expert   elicit.Expert
+	Revision *elicit.Revision // latest; nil when the expert has not answered
+	Saves    int              // revisions on this question, all rounds
+	Fit      *elicit.Fit
+	FitError string // why the saved answer could not be fitted
+	Weight   float64
+	Pooled   bool
+}
+
+// questionState is everything the panel and the report show for one
+// question, computed by elicit from the stored judgements.
+type questionState struct {
+	Question  elicit.Question
+	Rows      []expertFitRow
+	Weights   elicit.Weights
+	Pool      *elicit.Pool
+	PoolError string
+	Rep       *elicit.Representation // the pool's single-Beta representation
+	RepError  string
+	Agreed    []elicit.AgreedPrior // oldest first; the last is current
+	History   []elicit.Revision    // this question's revisions, oldest first
+}
+
+// current is the agreed prior in force, or nil.
+func (st questionState) current() *elicit.AgreedPrior {
+	if len(st.Agreed) == 0 {
+		return nil
+	}
+	return &st.Agreed[len(st.Agreed)-1]
+}
+
+// workshopData is the stored state of a workshop that question states
+// are built from; read once per page.
+type workshopData struct {
+	Workshop  elicit.Workshop
+	Questions []elicit.Question
+	Experts   []elicit.Expert
+	Revisions []elicit.Revision
+	Weights   elicit.Weights
+	Priors    []elicit.AgreedPrior
+}
+
+func (s *Server) readWorkshopData(ctx context.Context, ws elicit.Workshop) (workshopData, error) {
+	d := workshopData{Workshop: ws}
+	var err error
+	if d.Questions, err = s.store.Questions(ctx, ws.ID); err != nil {
+		return d, err
+	}
+	if d.Experts, err = s.store.Experts(ctx, ws.ID); err != nil {
+		return d, err
+	}
+	if d.Revisions, err = s.store.Revisions(ctx, ws.ID); err != nil {
+		return d, err
+	}
+	if d.Weights, err = s.store.Weights(ctx, ws.ID); err != nil {
+		return d, err
+	}
+	if d.Priors, err = s.store.AgreedPriors(ctx, ws.ID); err != nil {
+		return d, err
+	}
+	return d, nil
+}
+
+// state builds question q's state: each expert's latest revision fitted
+// with Question.Fit, the linear opinion pool of the active experts' fits
+// under the workshop's weights (elicit.LinearPool), and its best single
+// Beta (Pool.BestBeta). Revoked experts stay in the table but not in the
+// pool.
+func (d workshopData) state(q elicit.Question) questionState {
+	st := questionState{Question: q, Weights: d.Weights}
+	for _, rv := range d.Revisions {
+		if rv.QuestionID == q.ID {
+			st.History = append(st.History, rv)
+		}
+	}
+	for _, p := range d.Priors {
+		if p.QuestionID == q.ID {
+			st.Agreed = append(st.Agreed, p)
+		}
+	}
+	var dists []elicit.ScaledBeta
+	var weights []float64
+	for _, e := range d.Experts {
+		row := expertFitRow{Expert: e}
+		for i := range st.History {
+			if st.History[i].ExpertID == e.ID {
+				row.Revision = &st.History[i]
+				row.Saves++
+			}
+		}
+		if row.Revision != nil {
+			fit, err := q.Fit(row.Revision.Answer)
+			if err != nil {
+				row.FitError = err.Error()
+			} else {
+				row.Fit = &fit
+			}
+		}
+		if row.Fit != nil && !e.Revoked {
+			row.Pooled = true
+			row.Weight = 1
+			if d.Weights.Scheme != elicit.WeightsEqual {
+				row.Weight = d.Weights.ByExpert[e.ID]
+			}
+			dists = append(dists, row.Fit.Dist)
+			weights = append(weights, row.Weight)
+		}
+		st.Rows = append(st.Rows, row)
+	}
+	if len(dists) == 0 {
+		st.PoolError = "No expert has a fitted judgement on this question yet."
+		return st
+	}
+	pool, err := elicit.LinearPool(dists, weights)
+	if err != nil {
+		st.PoolError = "The pool cannot be formed: " + err.Error()
+		return st
+	}
+	st.Pool = &pool
+	rep, err := pool.BestBeta()
+	if err != nil {
+		st.RepError = "No single Beta could be fitted to the pool: " + err.Error()
+	} else {
+		st.Rep = &rep
+	}
+	return st
+}
+
+// normalisedWeight is row's share of the pool's total weight.
+func (st questionState) normalisedWeight(row expertFitRow) float64 {
+	total := 0.0
+	for _, r := range st.Rows {
+		if r.Pooled {
+			total += r.Weight
+		}
+	}
+	if !row.Pooled || total == 0 {
+		return 0
+	}
+	return row.Weight / total
+}
+
+// chartView overlays every pooled expert's fit, the pool and the agreed
+// prior for the facilitator (with names).
+func (st questionState) chartView() chart.PanelView {
+	q := st.Question
+	v := chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	for _, row := range st.Rows {
+		if row.Fit != nil && row.Pooled {
+			v.Curves = append(v.Curves, chart.Curve{Label: row.Expert.Name, Role: chart.RoleExpert, Dist: row.Fit.Dist})
+		}
+	}
+	if st.Pool != nil {
+		p := st.Pool
+		label := "Linear pool (equal weights)"
+		if st.Weights.Scheme != elicit.WeightsEqual {
+			label = "Linear pool (" + string(st.Weights.Scheme) + " weights)"
+		}
+		v.Curves = append(v.Curves, chart.Curve{Label: label, Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile})
+	}
+	if a := st.current(); a != nil {
+		role := chart.RoleAgreed
+		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: role, Dist: a.Dist})
+	}
+	return v
+}
+
+// panelView is the per-question page for the facilitator.
+type panelView struct {
+	Workshop    elicit.Workshop
+	Experts     []elicit.Expert
+	State       questionState
+	Chart       chart.PanelView
+	WeightsForm *Form
+	AgreeForm   *Form
+	Consensus   answerForm
+}
+
+// loadQuestion reads the {question} of workshop ws, answering 404 when it
+// belongs to another workshop.
+func (s *Server) loadQuestion(w http.ResponseWriter, r *http.Request, ws elicit.Workshop) (elicit.Question, bool) {
+	id, ok := s.pathID(w, r, "question")
+	if !ok {
+		return elicit.Question{}, false
+	}
+	q, err := s.store.Question(r.Context(), id)
+	if err == nil && q.WorkshopID != ws.ID {
+		err = elicit.ErrNotFound
+	}
+	if err != nil {
+		s.fail(w, r, err)
+		return elicit.Question{}, false
+	}
+	return q, true
+}
+
+func (s *Server) questionPanel(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	s.showPanel(w, r, http.StatusOK, ws, q, nil, nil)
+}
+
+// showPanel renders the panel; wf and af are forms to show again with
+// their errors (nil for fresh forms).
+func (s *Server) showPanel(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, q elicit.Question, wf, af *Form) {
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	st := d.state(q)
+	if wf == nil {
+		wf = newForm(nil)
+		for _, row := range st.Rows {
+			wt := 1.0
+			if st.Weights.Scheme != elicit.WeightsEqual {
+				wt = st.Weights.ByExpert[row.Expert.ID]
+			}
+			wf.Values.Set(weightField(row.Expert.ID), strconv.FormatFloat(wt, 'g', -1, 64))
+		}
+	}
+	if af == nil {
+		af = newForm(nil)
+		af.Values.Set("source", string(elicit.PriorFromPool))
+	}
+	cf := newAnswerForm(q, formValues(af))
+	applyErrors(&cf, af)
+	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf}
+	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
+	m.Caution = true
+	s.renderPage(w, r, status, m, panelPage(v))
+}
+
+func weightField(expertID int64) string { return fmt.Sprintf("weights[%d]", expertID) }

@@ -1,0 +1,85 @@
+package web
+
+import (
+	"fmt"
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// agreePrior records the prior the panel agreed for a question: either the
+// pool's single-Beta representation, recomputed here from the stored
+// judgements (never taken from the form), or a Beta fitted by elicit to a
+// consensus judgement entered in the question's format. A rationale is
+// required.
+func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	source := elicit.PriorSource(f.Choice("source", "", string(elicit.PriorFromPool), string(elicit.PriorFromConsensus)))
+	rationale := f.Text("rationale", MaxLongText, true)
+	p := elicit.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale}
+	switch source {
+	case elicit.PriorFromPool:
+		d, err := s.readWorkshopData(r.Context(), ws)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		st := d.state(q)
+		switch {
+		case st.Rep != nil:
+			p.Dist = st.Rep.Dist
+		case st.PoolError != "":
+			f.set("source", st.PoolError)
+		default:
+			f.set("source", st.RepError)
+		}
+	case elicit.PriorFromConsensus:
+		a, fit, ok := readAnswer(q, f)
+		if ok {
+			p.Dist, p.Consensus = fit.Dist, &a
+		}
+	}
+	if !f.OK() {
+		s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, nil, f)
+		return
+	}
+	if err := s.store.AgreePrior(r.Context(), &p); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#agreed", http.StatusSeeOther)
+}
+
+// snippet is the agreed prior written in one modelling language.
+type snippet struct {
+	Language, Code string
+}
+
+// num writes a parameter for a snippet with enough digits to reproduce
+// the prior's percentiles.
+func num(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
+
+// priorSnippets writes Beta(α, β) as Stan, R and PyMC state it. For a
+// quantity on bounds other than [0, 1] the Beta is on the unit scale and
+// a note gives the transformation.
+func priorSnippets(d elicit.ScaledBeta) (snips []snippet, note string) {
+	a, b := num(d.Alpha), num(d.Beta.Beta)
+	snips = []snippet{
+		{"Stan", fmt.Sprintf("theta ~ beta(%s, %s);", a, b)},
+		{"R", fmt.Sprintf("dbeta(x, %s, %s)", a, b)},
+		{"PyMC", fmt.Sprintf(`theta = pm.Beta("theta", alpha=%s, beta=%s)`, a, b)},
+	}
+	if d.Lower != 0 || d.Upper != 1 {
+		note = fmt.Sprintf("These are on the unit scale: the quantity is %s + (%s − %s) × theta.", num(d.Lower), num(d.Upper), num(d.Lower))
+	}
+	return snips, note
+}

@@ -1,0 +1,366 @@
+package web
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// seeded is a harness signed in over a database holding the invented demo.
+func seeded(t *testing.T) (*harness, elicit.Workshop, []elicit.Question, []elicit.Expert, []DemoLink) {
+	t.Helper()
+	h := newHarness(t)
+	h.signIn()
+	links, err := SeedDemo(context.Background(), h.db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	ws, err := h.db.Workshops(ctx)
+	if err != nil || len(ws) != 1 {
+		t.Fatalf("demo workshops: %v, %v", ws, err)
+	}
+	qs, _ := h.db.Questions(ctx, ws[0].ID)
+	es, _ := h.db.Experts(ctx, ws[0].ID)
+	return h, ws[0], qs, es, links
+}
+
+func TestSeedDemo(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	if !ws.Invented || len(qs) < 3 || len(es) != 4 || len(links) != 4 {
+		t.Fatalf("demo: invented %v, %d questions, %d experts, %d links", ws.Invented, len(qs), len(es), len(links))
+	}
+	// Every demo answer is a valid judgement that elicit can fit.
+	revs, _ := h.db.Revisions(context.Background(), ws.ID)
+	if len(revs) == 0 {
+		t.Fatal("demo has no answers")
+	}
+	byID := map[int64]elicit.Question{}
+	for _, q := range qs {
+		byID[q.ID] = q
+	}
+	for _, rv := range revs {
+		if _, err := byID[rv.QuestionID].Fit(rv.Answer); err != nil {
+			t.Errorf("demo revision %d does not fit: %v", rv.ID, err)
+		}
+	}
+	// A second seed does nothing.
+	again, err := SeedDemo(context.Background(), h.db)
+	if err != nil || again != nil || h.workshopCount() != 1 {
+		t.Fatalf("second SeedDemo = %v, %v; %d workshops", again, err, h.workshopCount())
+	}
+	// Demo links work.
+	if res, _ := h.get(links[0].Path); res.StatusCode != http.StatusOK {
+		t.Fatalf("demo expert link: %d", res.StatusCode)
+	}
+}
+
+func TestFacilitatorPagesRender(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	target := qs[0]
+	for _, tc := range []struct {
+		path string
+		want []string
+	}{
+		{"/", []string{"Workshops", ws.Title, "invented demo", "New workshop"}},
+		{workshopPath(ws.ID), []string{"Invented data.", "Questions", "Ines Varga", "Ole Brandt", "Who has answered what in round 1", "Close round 1", "Add an expert"}},
+		{workshopPath(ws.ID) + "/questions/new", []string{"Add a question", "Lower bound", "Chips in bins", "calibration question"}},
+		{workshopPath(ws.ID) + "/log", []string{"Decision log", "Workshop created", "Question added", "Expert added"}},
+		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
+		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.041"}},
+	} {
+		res, body := h.get(tc.path)
+		if res.StatusCode != http.StatusOK {
+			t.Errorf("GET %s: %d", tc.path, res.StatusCode)
+			continue
+		}
+		for _, w := range tc.want {
+			if !strings.Contains(body, w) {
+				t.Errorf("GET %s: page lacks %q", tc.path, w)
+			}
+		}
+		if strings.Contains(body, "NaN") || strings.Contains(body, "Inf") {
+			t.Errorf("GET %s: NaN or Inf on the page", tc.path)
+		}
+	}
+	for _, path := range []string{workshopPath(999), questionPath(ws.ID, 999), workshopPath(ws.ID) + "/q/abc"} {
+		if res, _ := h.get(path); res.StatusCode != http.StatusNotFound {
+			t.Errorf("GET %s: %d, want 404", path, res.StatusCode)
+		}
+	}
+}
+
+// counts is what a rejected form must leave unchanged.
+type counts struct{ workshops, questions, experts, events, priors, revisions int }
+
+func (h *harness) counts(wsID int64) counts {
+	h.t.Helper()
+	ctx := context.Background()
+	ws, _ := h.db.Workshops(ctx)
+	qs, _ := h.db.Questions(ctx, wsID)
+	es, _ := h.db.Experts(ctx, wsID)
+	ev, _ := h.db.Events(ctx, wsID)
+	ps, _ := h.db.AgreedPriors(ctx, wsID)
+	rv, _ := h.db.Revisions(ctx, wsID)
+	return counts{len(ws), len(qs), len(es), len(ev), len(ps), len(rv)}
+}
+
+func TestFacilitatorFormsRejectBadInput(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	wp := workshopPath(ws.ID)
+	qp := questionPath(ws.ID, qs[0].ID)
+	question := func(over map[string]string) url.Values {
+		v := url.Values{"wording": {"What share will fail?"}, "quantity": {"share"}, "units": {""},
+			"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"},
+			"custom_probs": {""}, "bin_edges": {""}, "chips": {""}, "true_value": {""}}
+		for k, val := range over {
+			v.Set(k, val)
+		}
+		return v
+	}
+	long := strings.Repeat("x", MaxShortText+1)
+	tests := []struct {
+		name  string
+		path  string
+		form  url.Values
+		field string // the field whose message must appear
+		kept  string // a typed value that must be shown again
+	}{
+		{"workshop without title", "/workshops", url.Values{"title": {" "}, "purpose": {"kept purpose"}}, "title", "kept purpose"},
+		{"workshop title too long", "/workshops", url.Values{"title": {long}}, "title", long},
+		{"question lower with comma", wp + "/questions", question(map[string]string{"lower": "0,5"}), "lower", "0,5"},
+		{"question upper NaN", wp + "/questions", question(map[string]string{"upper": "NaN"}), "upper", "NaN"},
+		{"question lower hex", wp + "/questions", question(map[string]string{"lower": "0x0p0"}), "lower", "0x0p0"},
+		{"question upper underscore", wp + "/questions", question(map[string]string{"upper": "1_0"}), "upper", "1_0"},
+		{"question bounds reversed", wp + "/questions", question(map[string]string{"lower": "1", "upper": "0"}), "lower", "What share will fail?"},
+		{"question without wording", wp + "/questions", question(map[string]string{"wording": ""}), "wording", "share"},
+		{"custom probabilities decreasing", wp + "/questions", question(map[string]string{"preset": "custom", "custom_probs": "0.5 0.2"}), "custom_probs", "0.5 0.2"},
+		{"custom probability of 1", wp + "/questions", question(map[string]string{"preset": "custom", "custom_probs": "0.5 1"}), "custom_probs", "0.5 1"},
+		{"unknown format", wp + "/questions", question(map[string]string{"format": "guess"}), "format", "What share will fail?"},
+		{"chips not a number", wp + "/questions", question(map[string]string{"format": "chips", "bin_edges": "0 0.5 1", "chips": "ten"}), "chips", "ten"},
+		{"bin edges short of the bounds", wp + "/questions", question(map[string]string{"format": "chips", "bin_edges": "0.1 0.5 1", "chips": "10"}), "bin_edges", "0.1 0.5 1"},
+		{"calibration without true value", wp + "/questions", question(map[string]string{"calibration": "on"}), "true_value", "What share will fail?"},
+		{"true value outside bounds", wp + "/questions", question(map[string]string{"calibration": "on", "true_value": "1.5"}), "true_value", "1.5"},
+		{"expert without name", wp + "/experts", url.Values{"name": {""}, "affiliation": {"kept affiliation"}}, "name", "kept affiliation"},
+		{"expert name with control character", wp + "/experts", url.Values{"name": {"a\x07b"}}, "name", ""},
+		{"round action unknown", wp + "/round", url.Values{"action": {"skip"}}, "action", ""},
+		{"open round while open", wp + "/round", url.Values{"action": {"open"}, "reason": {"kept reason"}}, "action", "kept reason"},
+		{"weights without reason", qp + "/weights", url.Values{"scheme": {"custom"}, weightField(es[0].ID): {"2"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, "reason", ""},
+		{"weight negative", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"r"}, weightField(es[0].ID): {"-1"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, weightField(es[0].ID), "-1"},
+		{"weight Inf", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"r"}, weightField(es[0].ID): {"Inf"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, weightField(es[0].ID), "Inf"},
+		{"weights all zero", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"kept why"}, weightField(es[0].ID): {"0"}, weightField(es[1].ID): {"0"}, weightField(es[2].ID): {"0"}, weightField(es[3].ID): {"0"}}, "scheme", "kept why"},
+		{"agree without rationale", qp + "/agree", url.Values{"source": {"pool"}, "rationale": {""}}, "rationale", ""},
+		{"agree unknown source", qp + "/agree", url.Values{"source": {"vote"}, "rationale": {"kept rationale"}}, "source", "kept rationale"},
+		{"consensus values decreasing", qp + "/agree", url.Values{"source": {"consensus"}, "rationale": {"r"}, "values[0]": {"0.2"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[1]", "0.2"},
+		{"consensus value thousands separator", qp + "/agree", url.Values{"source": {"consensus"}, "rationale": {"r"}, "values[0]": {"1,000"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[0]", "1,000"},
+	}
+	for _, tt := range tests {
+		before := h.counts(ws.ID)
+		res, body := h.post(tt.path, tt.form)
+		if res.StatusCode < 400 || res.StatusCode >= 500 {
+			t.Errorf("%s: status %d, want 4xx", tt.name, res.StatusCode)
+			continue
+		}
+		if after := h.counts(ws.ID); after != before {
+			t.Errorf("%s: something was saved: %+v → %+v", tt.name, before, after)
+		}
+		if !strings.Contains(body, "Nothing was saved") {
+			t.Errorf("%s: page does not say nothing was saved", tt.name)
+		}
+		if !hasFieldError(body, tt.field) {
+			t.Errorf("%s: no message beside field %q", tt.name, tt.field)
+		}
+		if tt.kept != "" && !strings.Contains(body, htmlEscape(tt.kept)) {
+			t.Errorf("%s: typed value %q not shown again", tt.name, tt.kept)
+		}
+	}
+}
+
+// hasFieldError reports whether the page shows a message beside the
+// named field: an element with the field's error id, or the consensus
+// field marked invalid.
+func hasFieldError(body, field string) bool {
+	if strings.Contains(body, `id="err-`+field+`"`) {
+		return true
+	}
+	// The consensus fields are laid out by the expert form's helpers.
+	i := strings.Index(body, `name="`+field+`"`)
+	return i >= 0 && strings.Contains(body[i:min(len(body), i+400)], `aria-invalid="true"`)
+}
+
+func htmlEscape(s string) string {
+	return strings.NewReplacer("&", "&amp;", "<", "&lt;", ">", "&gt;", `"`, "&#34;", "'", "&#39;").Replace(s)
+}
+
+func TestWorkshopFlowThroughForms(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	wp := workshopPath(ws.ID)
+	qp := questionPath(ws.ID, qs[0].ID)
+
+	// Add a question in each format.
+	for _, form := range []url.Values{
+		{"wording": {"Custom"}, "quantity": {"q custom"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"custom"}, "custom_probs": {"0.1, 0.5, 0.9"}},
+		{"wording": {"Tertiles"}, "quantity": {"q tertiles"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"tertiles"}},
+		{"wording": {"Interval"}, "quantity": {"q interval"}, "lower": {"0"}, "upper": {"1"}, "format": {"interval"}},
+		{"wording": {"Chips"}, "quantity": {"q chips"}, "lower": {"0"}, "upper": {"0.5"}, "format": {"chips"}, "bin_edges": {"0 0.1 0.2 0.3 0.5"}, "chips": {"20"}, "calibration": {"on"}, "true_value": {"0.12"}},
+	} {
+		if res, body := h.post(wp+"/questions", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("add question %s: %d %s", form.Get("quantity"), res.StatusCode, body)
+		}
+	}
+	all, _ := h.db.Questions(ctx, ws.ID)
+	got := map[string]elicit.Question{}
+	for _, q := range all {
+		got[q.Quantity] = q
+	}
+	if q := got["q custom"]; fmt.Sprint(q.Probs) != "[0.1 0.5 0.9]" {
+		t.Errorf("custom probs stored as %v", q.Probs)
+	}
+	if q := got["q tertiles"]; fmt.Sprint(q.Probs) != fmt.Sprint(elicit.ProbsTertiles) {
+		t.Errorf("tertiles stored as %v", q.Probs)
+	}
+	if q := got["q chips"]; q.Chips != 20 || len(q.BinEdges) != 5 || !q.Calibration || q.TrueValue == nil || *q.TrueValue != 0.12 {
+		t.Errorf("chips question stored as %+v", q)
+	}
+
+	// Custom weights, recorded with their reason, change the pool share.
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Ole is overconfident (invented)"}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "0"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	w, _ := h.db.Weights(ctx, ws.ID)
+	if w.Scheme != elicit.WeightsCustom || w.ByExpert[es[0].ID] != 2 || w.Reason == "" {
+		t.Fatalf("weights stored as %+v", w)
+	}
+	_, body := h.get(qp)
+	if !strings.Contains(body, "custom weights") || !strings.Contains(body, "66.7%") {
+		t.Errorf("panel does not show the custom weights (Ines 2 of 3 pooled weight)")
+	}
+
+	// Agree the pool's best Beta: it must equal what elicit computes from
+	// the stored judgements under the stored weights.
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "rationale": {"Pool of the two careful experts (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree pool: %d %s", res.StatusCode, body)
+	}
+	d, err := h.srv.readWorkshopData(ctx, ws)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var dists []elicit.ScaledBeta
+	var weights []float64
+	for _, e := range es {
+		var latest *elicit.Revision
+		for i := range d.Revisions {
+			if d.Revisions[i].ExpertID == e.ID && d.Revisions[i].QuestionID == qs[0].ID {
+				latest = &d.Revisions[i]
+			}
+		}
+		if latest == nil {
+			continue
+		}
+		fit, err := qs[0].Fit(latest.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		dists = append(dists, fit.Dist)
+		weights = append(weights, w.ByExpert[e.ID])
+	}
+	pool, err := elicit.LinearPool(dists, weights)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rep, err := pool.BestBeta()
+	if err != nil {
+		t.Fatal(err)
+	}
+	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
+	if len(ps) != 1 || ps[0].Source != elicit.PriorFromPool || ps[0].Dist != rep.Dist {
+		t.Fatalf("agreed %+v, want %+v", ps, rep.Dist)
+	}
+	_, body = h.get(qp)
+	for _, want := range []string{"theta ~ beta(", "dbeta(x, ", "pm.Beta(&#34;theta&#34;, alpha=", "Pool of the two careful experts"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("panel lacks %q after agreeing", want)
+		}
+	}
+
+	// Agree a consensus judgement instead; elicit fits it.
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"consensus"}, "rationale": {"Discussed (invented)."},
+		"values[0]": {"0.015"}, "values[1]": {"0.045"}, "values[2]": {"0.11"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree consensus: %d %s", res.StatusCode, body)
+	}
+	want, err := qs[0].Fit(elicit.Answer{Values: []float64{0.015, 0.045, 0.11}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ps, _ = h.db.AgreedPriors(ctx, ws.ID)
+	if len(ps) != 2 || ps[1].Source != elicit.PriorFromConsensus || ps[1].Dist != want.Dist || ps[1].Consensus == nil {
+		t.Fatalf("consensus agreed %+v, want %+v", ps[len(ps)-1], want.Dist)
+	}
+
+	// Rounds: close, then open with a reason.
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close round: %d", res.StatusCode)
+	}
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"open"}, "reason": {"Discussed the spread (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("open round: %d", res.StatusCode)
+	}
+	got2, _ := h.db.Workshop(ctx, ws.ID)
+	if got2.Round != 2 || !got2.Open {
+		t.Fatalf("after rounds: round %d open %v", got2.Round, got2.Open)
+	}
+	_, body = h.get(wp + "/log")
+	for _, want := range []string{"Round closed", "Round opened", "Discussed the spread (invented).", "Pool weights set", "Ole is overconfident (invented)", "Prior agreed"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("log lacks %q", want)
+		}
+	}
+}
+
+func TestRosterLinksRevokeAndReissue(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Roster (invented)")
+	e, token := h.addExpert(ws, "Expert One")
+	if res, _ := h.get(expertPath(token)); res.StatusCode != http.StatusOK {
+		t.Fatalf("fresh link: %d", res.StatusCode)
+	}
+	// The link is shown once: the overview afterwards does not carry it.
+	if _, body := h.get(workshopPath(ws.ID)); strings.Contains(body, token) {
+		t.Fatal("overview shows the private link again")
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d", res.StatusCode)
+	}
+	if res, body := h.get(expertPath(token)); res.StatusCode != http.StatusNotFound || strings.Contains(body, "Expert One") {
+		t.Fatalf("revoked link: %d", res.StatusCode)
+	}
+	res, body := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}})
+	m := linkPattern.FindStringSubmatch(body)
+	if res.StatusCode != http.StatusOK || m == nil || m[1] == token {
+		t.Fatalf("reissue: %d, link %v", res.StatusCode, m)
+	}
+	if res, _ := h.get(expertPath(token)); res.StatusCode != http.StatusNotFound {
+		t.Fatalf("old link after reissue: %d", res.StatusCode)
+	}
+	if res, _ := h.get(expertPath(m[1])); res.StatusCode != http.StatusOK {
+		t.Fatalf("new link: %d", res.StatusCode)
+	}
+	// An expert of another workshop cannot be revoked through this one.
+	other := h.newWorkshop("Other (invented)")
+	if res, _ := h.post(expertActionPath(other.ID, e.ID, "revoke"), url.Values{}); res.StatusCode != http.StatusNotFound {
+		t.Fatalf("cross-workshop revoke: %d", res.StatusCode)
+	}
+	if got, _ := h.db.Expert(context.Background(), e.ID); got.Revoked {
+		t.Fatal("expert revoked through another workshop")
+	}
+}

@@ -1,0 +1,60 @@
+package web
+
+import (
+	"errors"
+	"net/http"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// setWeights records the pool weights the facilitator chose, with the
+// reason, for the whole workshop. Weights are unnormalised, finite and not
+// negative; the store refuses all-zero custom weights. The form is posted
+// from a question's panel and returns there.
+func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsCustom)))
+	reason := f.Text("reason", MaxLongText, true)
+	wt := elicit.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
+	if scheme == elicit.WeightsCustom {
+		experts, err := s.store.Experts(r.Context(), ws.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		wt.ByExpert = map[int64]float64{}
+		for _, e := range experts {
+			if e.Revoked {
+				continue
+			}
+			v := f.Float(weightField(e.ID))
+			if v < 0 {
+				f.set(weightField(e.ID), string(elicit.RuleNonNegative))
+			}
+			wt.ByExpert[e.ID] = v
+		}
+	}
+	if f.OK() {
+		err := s.store.SetWeights(r.Context(), &wt)
+		var ie *elicit.InputError
+		if errors.As(err, &ie) {
+			f.Fail(err, map[string]string{"weights": "scheme"})
+		} else if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+	}
+	if !f.OK() {
+		s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, f, nil)
+		return
+	}
+	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#pool", http.StatusSeeOther)
+}
