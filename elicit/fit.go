@@ -103,11 +103,17 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		f.MaxProbError = math.Max(f.MaxProbError, math.Abs(f.ProbErrors[i]))
 	}
 	for k, p := range [3]float64{0.05, 0.5, 0.95} {
-		f.Percentiles[k] = d.Quantile(p)
+		// Start from the fitted quantile at the nearest stated probability.
+		near := 0
 		for i, q := range probs {
-			if q == p {
-				f.Percentiles[k] = f.Fitted[i]
+			if math.Abs(q-p) < math.Abs(probs[near]-p) {
+				near = i
 			}
+		}
+		if probs[near] == p {
+			f.Percentiles[k] = f.Fitted[near]
+		} else {
+			f.Percentiles[k] = d.quantileNear(p, f.Fitted[near])
 		}
 	}
 	f.Warnings = fitWarnings(d.Beta, f.MaxProbError)
