@@ -7,11 +7,15 @@ import (
 	"net/http"
 	"net/http/httptest"
 	"net/url"
+	"os"
 	"path/filepath"
 	"regexp"
 	"strconv"
 	"strings"
 	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/store"
@@ -506,5 +510,89 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		if got := readBack(c.p, c.x, "per demand"); got != c.want {
 			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
 		}
+	}
+}
+
+// TestLivePreviewInChromium proves web/static/preview.js in a real
+// browser: typing, without pressing any button, brings the fit picture,
+// its points follow the typed values, the page does not navigate, and
+// nothing is saved.
+func TestLivePreviewInChromium(t *testing.T) {
+	const chromium = "/usr/bin/chromium"
+	if _, err := os.Stat(chromium); err != nil {
+		t.Skipf("SKIPPING: %s not found (%v); .ci/run installs it", chromium, err)
+	}
+	g := newExpertRig(t)
+	opts := []chromedp.ExecAllocatorOption{
+		chromedp.ExecPath(chromium), chromedp.Headless, chromedp.NoSandbox, chromedp.DisableGPU, chromedp.NoFirstRun,
+		chromedp.Flag("disable-background-networking", true), chromedp.Flag("disable-component-update", true),
+		chromedp.Flag("disable-sync", true), chromedp.UserDataDir(t.TempDir()), chromedp.WindowSize(1280, 900),
+	}
+	life, cancelLife := context.WithTimeout(context.Background(), 60*time.Second)
+	defer cancelLife()
+	alloc, cancelAlloc := chromedp.NewExecAllocator(life, opts...)
+	defer cancelAlloc()
+	ctx, cancelTab := chromedp.NewContext(alloc)
+	defer cancelTab()
+	page := g.srv.URL + g.qpath(0, g.q)
+	if err := chromedp.Do(ctx, chromedp.Navigate(page)); err != nil {
+		t.Fatalf("open the question: %v", err)
+	}
+	count := func() int {
+		n, err := chromedp.Run(ctx, chromedp.Evaluate[int](`document.querySelectorAll('#preview circle.stated').length`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return n
+	}
+	if n := count(); n != 0 {
+		t.Fatalf("%d points before typing, want none", n)
+	}
+	step, cancelStep := context.WithTimeout(ctx, 15*time.Second)
+	defer cancelStep()
+	if err := chromedp.Do(step,
+		chromedp.SendKeys(chromedp.CSS("#f-values-0"), "0.05"),
+		chromedp.SendKeys(chromedp.CSS("#f-values-1"), "0.2"),
+		chromedp.SendKeys(chromedp.CSS("#f-values-2"), "0.4"),
+		chromedp.WaitVisible(chromedp.CSS("#preview circle.stated")),
+	); err != nil {
+		t.Fatalf("type and wait for the picture: %v", err)
+	}
+	firstX := func() string {
+		x, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.querySelector('#preview circle.stated').getAttribute('data-x')`))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return x
+	}
+	// The debounce may fire before the last keystroke; wait for the
+	// picture of the whole input.
+	deadline := time.Now().Add(10 * time.Second)
+	for count() != 3 || firstX() != "0.05" {
+		if time.Now().After(deadline) {
+			t.Fatalf("picture shows %d points, first at %s; want 3, first at 0.05", count(), firstX())
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	// Typing more moves the point.
+	if err := chromedp.Do(ctx, chromedp.SendKeys(chromedp.CSS("#f-values-0"), "1")); err != nil {
+		t.Fatal(err)
+	}
+	for firstX() != "0.051" {
+		if time.Now().After(deadline) {
+			t.Fatalf("first point at %s after typing 0.051", firstX())
+		}
+		time.Sleep(100 * time.Millisecond)
+	}
+	text, err := chromedp.Run(ctx, chromedp.Evaluate[string](`document.querySelector('#preview').innerText`))
+	if err != nil || !strings.Contains(text, "1 in 20 chance the value is below 0.051") {
+		t.Errorf("read-back after typing: %q, %v", text, err)
+	}
+	where, err := chromedp.Run(ctx, chromedp.Evaluate[string](`location.href`))
+	if err != nil || where != page {
+		t.Errorf("the page navigated to %q", where)
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("live preview saved %d revisions", n)
 	}
 }
