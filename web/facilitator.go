@@ -26,6 +26,11 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/q/{question}", s.questionPanel)
 		r.Post("/q/{question}/weights", s.setWeights)
 		r.Post("/q/{question}/agree", s.agreePrior)
+		r.Get("/report", s.report)
+		r.Get("/export.json", s.exportRecord("json", false))
+		r.Get("/export.csv", s.exportRecord("csv", false))
+		r.Get("/q/{question}/export.json", s.exportRecord("json", true))
+		r.Get("/q/{question}/export.csv", s.exportRecord("csv", true))
 	})
 }
 

@@ -1,9 +1,7 @@
 package web
 
 import (
-	"fmt"
 	"net/http"
-	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -57,29 +55,4 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#agreed", http.StatusSeeOther)
-}
-
-// snippet is the agreed prior written in one modelling language.
-type snippet struct {
-	Language, Code string
-}
-
-// num writes a parameter for a snippet with enough digits to reproduce
-// the prior's percentiles.
-func num(v float64) string { return strconv.FormatFloat(v, 'g', 6, 64) }
-
-// priorSnippets writes Beta(α, β) as Stan, R and PyMC state it. For a
-// quantity on bounds other than [0, 1] the Beta is on the unit scale and
-// a note gives the transformation.
-func priorSnippets(d elicit.ScaledBeta) (snips []snippet, note string) {
-	a, b := num(d.Alpha), num(d.Beta.Beta)
-	snips = []snippet{
-		{"Stan", fmt.Sprintf("theta ~ beta(%s, %s);", a, b)},
-		{"R", fmt.Sprintf("dbeta(x, %s, %s)", a, b)},
-		{"PyMC", fmt.Sprintf(`theta = pm.Beta("theta", alpha=%s, beta=%s)`, a, b)},
-	}
-	if d.Lower != 0 || d.Upper != 1 {
-		note = fmt.Sprintf("These are on the unit scale: the quantity is %s + (%s − %s) × theta.", num(d.Lower), num(d.Upper), num(d.Lower))
-	}
-	return snips, note
 }

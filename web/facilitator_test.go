@@ -287,7 +287,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		t.Fatalf("agreed %+v, want %+v", ps, rep.Dist)
 	}
 	_, body = h.get(qp)
-	for _, want := range []string{"theta ~ beta(", "dbeta(x, ", "pm.Beta(&#34;theta&#34;, alpha=", "Pool of the two careful experts"} {
+	for _, want := range []string{"p ~ beta(", "dbeta(p, ", "pm.Beta(&#34;p&#34;, alpha=", "Pool of the two careful experts"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("panel lacks %q after agreeing", want)
 		}
@@ -362,5 +362,57 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	}
 	if got, _ := h.db.Expert(context.Background(), e.ID); got.Revoked {
 		t.Fatal("expert revoked through another workshop")
+	}
+}
+
+func TestReportAndExports(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "rationale": {"Invented rationale for the report."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree: %d %s", res.StatusCode, body)
+	}
+	res, body := h.get(workshopPath(ws.ID) + "/report")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("report: %d", res.StatusCode)
+	}
+	for _, want := range []string{"Caution.", "Invented data.", "Full revision history", "Decision log", "Invented rationale for the report.",
+		"p ~ beta(", "Linear opinion pool", es[0].Name, `href="/static/print.css" media="print"`, "<svg"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	// Calibration true values stay out of the record until revealed.
+	if strings.Contains(body, "0.041") {
+		t.Error("report shows an unrevealed true value")
+	}
+
+	res, body = h.get(workshopPath(ws.ID) + "/export.json")
+	if res.StatusCode != http.StatusOK || res.Header.Get("Content-Type") != "application/json" ||
+		!strings.Contains(res.Header.Get("Content-Disposition"), "attachment") {
+		t.Fatalf("export.json: %d %v", res.StatusCode, res.Header)
+	}
+	rec, err := elicit.ParseRecord(strings.NewReader(body))
+	if err != nil {
+		t.Fatalf("exported JSON does not parse as a record: %v", err)
+	}
+	ps, _ := h.db.AgreedPriors(context.Background(), ws.ID)
+	if rec.Questions[0].AgreedPrior == nil || rec.Questions[0].AgreedPrior.Dist != ps[0].Dist {
+		t.Fatalf("exported agreed prior %+v, stored %+v", rec.Questions[0].AgreedPrior, ps[0].Dist)
+	}
+	if strings.Contains(body, `"true_value"`) {
+		t.Error("export carries an unrevealed true value")
+	}
+
+	res, body = h.get(workshopPath(ws.ID) + "/export.csv")
+	revs, _ := h.db.Revisions(context.Background(), ws.ID)
+	if lines := strings.Count(strings.TrimSpace(body), "\n"); res.StatusCode != http.StatusOK || lines != len(revs) {
+		t.Fatalf("export.csv: %d, %d rows for %d revisions", res.StatusCode, lines, len(revs))
+	}
+	res, body = h.get(qp + "/export.csv")
+	if res.StatusCode != http.StatusOK || strings.Count(strings.TrimSpace(body), "\n") != 3 {
+		t.Fatalf("question export.csv: %d\n%s", res.StatusCode, body)
+	}
+	if res, _ := h.get(questionPath(ws.ID, 999) + "/export.json"); res.StatusCode != http.StatusNotFound {
+		t.Fatalf("export of a missing question: %d", res.StatusCode)
 	}
 }

@@ -1,0 +1,86 @@
+package web
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"fmt"
+	"net/http"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// recordSourcer is implemented by stores that read a workshop's whole
+// state in one consistent transaction (store.DB does).
+type recordSourcer interface {
+	Source(ctx context.Context, workshopID int64) (elicit.RecordSource, error)
+}
+
+// record builds the export record of ws with elicit.BuildRecord: every
+// fit and pool recomputed from the stored judgements.
+func (s *Server) record(ctx context.Context, ws elicit.Workshop) (elicit.Record, error) {
+	var src elicit.RecordSource
+	if rs, ok := s.store.(recordSourcer); ok {
+		var err error
+		if src, err = rs.Source(ctx, ws.ID); err != nil {
+			return elicit.Record{}, err
+		}
+	} else {
+		d, err := s.readWorkshopData(ctx, ws)
+		if err != nil {
+			return elicit.Record{}, err
+		}
+		evs, err := s.store.Events(ctx, ws.ID)
+		if err != nil {
+			return elicit.Record{}, err
+		}
+		src = elicit.RecordSource{Workshop: ws, Questions: d.Questions, Experts: d.Experts,
+			Revisions: d.Revisions, Weights: d.Weights, Priors: d.Priors, Events: evs}
+	}
+	return elicit.BuildRecord(src, s.now())
+}
+
+// exportRecord downloads the workshop's record, or one question's, as
+// JSON (the whole record) or CSV (one row per revision).
+func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc {
+	return func(w http.ResponseWriter, r *http.Request) {
+		ws, ok := s.loadWorkshop(w, r)
+		if !ok {
+			return
+		}
+		name := fmt.Sprintf("parley-workshop-%d", ws.ID)
+		rec, err := s.record(r.Context(), ws)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		if perQuestion {
+			q, ok := s.loadQuestion(w, r, ws)
+			if !ok {
+				return
+			}
+			if rec, err = rec.ForQuestion(q.ID); err != nil {
+				s.fail(w, r, err)
+				return
+			}
+			name += fmt.Sprintf("-question-%d", q.ID)
+		}
+		var buf bytes.Buffer
+		ctype := "application/json"
+		if format == "csv" {
+			ctype = "text/csv; charset=utf-8"
+			err = rec.WriteCSV(&buf)
+		} else {
+			enc := json.NewEncoder(&buf)
+			enc.SetIndent("", "  ")
+			err = enc.Encode(rec)
+		}
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		w.Header().Set("Content-Type", ctype)
+		w.Header().Set("Content-Disposition", fmt.Sprintf(`attachment; filename="%s.%s"`, name, format))
+		_, _ = buf.WriteTo(w)
+	}
+}

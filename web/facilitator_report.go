@@ -1,0 +1,71 @@
+package web
+
+import (
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// reportView is the printable record of a workshop, drawn from the same
+// elicit.Record the JSON and CSV exports carry.
+type reportView struct {
+	Record  elicit.Record
+	Experts map[int64]elicit.Expert
+	Charts  map[int64]chart.PanelView
+}
+
+func (s *Server) report(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	rec, err := s.record(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := reportView{Record: rec, Experts: map[int64]elicit.Expert{}, Charts: map[int64]chart.PanelView{}}
+	for _, e := range rec.Experts {
+		v.Experts[e.ID] = e
+	}
+	for _, q := range rec.Questions {
+		v.Charts[q.ID] = reportChart(q, v.Experts)
+	}
+	m := facilitatorMeta(ws, "Report: "+ws.Title, "report")
+	m.Caution = true
+	s.renderPage(w, r, http.StatusOK, m, reportPage(v))
+}
+
+// reportChart overlays a question's pooled experts' current fits, their
+// linear pool (elicit.LinearPool with the record's normalised weights) and
+// the agreed prior.
+func reportChart(q elicit.RecordQuestion, experts map[int64]elicit.Expert) chart.PanelView {
+	v := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	fits := map[int64]elicit.ScaledBeta{}
+	for _, cf := range q.CurrentFits {
+		if cf.Fit != nil {
+			fits[cf.ExpertID] = cf.Fit.Dist
+		}
+	}
+	if q.Pool != nil {
+		var dists []elicit.ScaledBeta
+		var weights []float64
+		for _, ew := range q.Pool.Weights {
+			d, ok := fits[ew.ExpertID]
+			if !ok {
+				continue
+			}
+			v.Curves = append(v.Curves, chart.Curve{Label: experts[ew.ExpertID].Name, Role: chart.RoleExpert, Dist: d})
+			dists, weights = append(dists, d), append(weights, ew.Weight)
+		}
+		if pool, err := elicit.LinearPool(dists, weights); err == nil {
+			v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile})
+		}
+	}
+	if a := q.AgreedPrior; a != nil {
+		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
+	}
+	return v
+}
