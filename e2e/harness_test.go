@@ -328,3 +328,20 @@ func clip(s string, n int) string {
 	}
 	return s[:n] + "…"
 }
+
+// waitFor waits until the script expression is truthy in the page.
+func (p *person) waitFor(what, expr string) {
+	p.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](expr, chromedp.WithPollingInterval(50*time.Millisecond), chromedp.WithPollingTimeout(stepTimeout))); err != nil {
+		p.t.Fatalf("%s: wait for %s: %v\npage shows:\n%s", p.name, what, err, clip(p.text(), 2000))
+	}
+	p.noScriptErrors(what)
+}
+
+// value is the current value of the form field matched by css.
+func (p *person) value(css string) string {
+	p.t.Helper()
+	return eval[string](p, "read "+css, fmt.Sprintf(`(document.querySelector(%q) || {value: "<missing>"}).value`, css))
+}

@@ -1,10 +1,14 @@
 package e2e
 
 import (
+	"context"
+	"encoding/json"
+	"fmt"
 	"net/http"
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/chromedp/chromedp"
 )
@@ -45,6 +49,168 @@ func TestWorkshopInBrowser(t *testing.T) {
 	fac.open(wsURL)
 	fac.sees("roster", "Ada Invented", "Bo Example", "0 of 2")
 	shots.take(fac, "01-facilitator-workshop")
+
+	// The experts, each on their own device.
+	ada, bo := b.person("Ada"), b.person("Bo")
+	ada.open(site.URL + "/")
+	ada.sees("a facilitator page in an expert's browser", "Facilitator sign-in")
+
+	ada.open(linkA)
+	ada.sees("expert home", "Ada Invented", "Pump reliability panel (invented)", "Round 1 is open",
+		"first-year failure proportion", "six-month repair survival", "not answered yet")
+	notShown(t, ada, "expert home", "Bo Example", "Start with the failure question.")
+
+	openQuestion(t, ada, linkA, 1)
+	ada.sees("expert question", "Of the pumps of model K-7", "The value with a 5% chance of being lower", "Show the fit")
+	if n := ada.count(previewCircles); n != 0 {
+		t.Errorf("Ada: %d stated points drawn before any value was typed", n)
+	}
+	typeValues(ada, "0.02", "0.05", "0.12")
+	first := livePreview(t, ada, 3, nil)
+	ada.sees("fit preview", "What your numbers imply", "1 in 20 chance the value is below 0.02", "above 0.12")
+	ada.fill(`form.answer-form`, "values[2]", "0.2")
+	second := livePreview(t, ada, 3, first)
+	ada.sees("fit preview after a change", "above 0.2")
+	if second[2] == first[2] {
+		t.Errorf("Ada: the 95%% point did not move when its value went from 0.12 to 0.2: %v then %v", first, second)
+	}
+	saveAnswer(t, ada)
+	if n := ada.count(previewCircles); n != 3 {
+		t.Errorf("Ada: the saved page draws %d stated points, want 3", n)
+	}
+	ada.sees("history after saving", "Your history on this question", "0.02")
+	shots.take(ada, "03-expert-question-fit")
+
+	// Question 2 by the plain form post, as without scripts.
+	openQuestion(t, ada, linkA, 2)
+	typeValues(ada, "0.5", "0.65", "0.75")
+	ada.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
+	ada.waitFor("the posted preview", fmt.Sprintf(`document.querySelectorAll(%q).length === 3`, previewCircles))
+	if v := ada.value(`[name="values[1]"]`); v != "0.65" {
+		t.Errorf("Ada: after Show the fit the median field holds %q, want the typed 0.65", v)
+	}
+	saveAnswer(t, ada)
+
+	// Bo types a judgement whose values go down: refused beside the field.
+	openQuestion(t, bo, linkB, 1)
+	typeValues(bo, "0.3", "0.2", "0.1")
+	bo.waitFor("the live preview's problem", `!!document.querySelector("#preview .preview-problem")`)
+	if n := bo.count(previewCircles); n != 0 {
+		t.Errorf("Bo: a decreasing judgement still draws %d points", n)
+	}
+	if st := bo.load("save a decreasing judgement", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("Bo: saving decreasing values: status %d, want 422", st)
+	}
+	bo.sees("refused judgement", "Nothing was saved")
+	msg := eval[string](bo, "the message beside the field", `(() => {
+		const e = document.querySelector(".field-invalid .field-error");
+		return e ? e.closest(".field").querySelector("label").innerText + " | " + e.innerText : "";
+	})()`)
+	if msg == "" {
+		t.Errorf("Bo: no message beside a field after a decreasing judgement:\n%s", clip(bo.text(), 2000))
+	} else {
+		t.Logf("Bo sees beside the field: %s", msg)
+	}
+	if v := bo.value(`[name="values[0]"]`); v != "0.3" {
+		t.Errorf("Bo: the refused form lost the typed value: %q", v)
+	}
+	shots.take(bo, "04-expert-invalid-judgement")
+	if n := revisionsOf(t, site, bo.name, 0); n != 0 {
+		t.Fatalf("a refused judgement was saved (%d revisions)", n)
+	}
+	typeValues(bo, "0.03", "0.08", "0.25")
+	livePreview(t, bo, 3, nil)
+	saveAnswer(t, bo)
+	openQuestion(t, bo, linkB, 2)
+	typeValues(bo, "0.6", "0.7", "0.8")
+	livePreview(t, bo, 3, nil)
+	saveAnswer(t, bo)
+
+	// Phone width: the expert's page fits a 390-pixel screen.
+	bo.viewport(phoneWidth, phoneHeight, true)
+	openQuestion(t, bo, linkB, 1)
+	if w := eval[int](bo, "page width", `document.documentElement.scrollWidth`); w > phoneWidth {
+		wide := eval[string](bo, "what is too wide", fmt.Sprintf(`Array.from(document.querySelectorAll("body *")).filter(e => e.getBoundingClientRect().right > %d).slice(0, 5).map(e => e.tagName.toLowerCase() + (e.className && e.className.baseVal === undefined ? "." + e.className : "") + " right=" + Math.round(e.getBoundingClientRect().right)).join("; ")`, phoneWidth))
+		t.Errorf("Bo's question page is %d px wide on a %d px phone: it scrolls sideways (widest: %s)", w, phoneWidth, wide)
+	}
+	shots.take(bo, "05-expert-question-phone")
+	bo.viewport(desktopWidth, desktopHeight, false)
+
+	// Round 1 closes; saving stops; round 2 opens with a reason.
+	fac.open(wsURL)
+	fac.sees("who answered", "2 of 2", "answered (1 save)")
+	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`)))
+	fac.sees("closed round", "Round 1 (closed)", "Open round 2")
+	openQuestion(t, ada, linkA, 1)
+	ada.sees("closed round", "Round 1 is closed", "Saving is closed for this round")
+	if n := ada.count(`button[formaction$="/save"]`); n != 0 {
+		t.Errorf("Ada can still press save in a closed round")
+	}
+	if st := fac.load("open round 2 without a reason", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("opening a round without a reason: status %d, want 422", st)
+	}
+	fac.sees("round refused", "is required", "Round 1 (closed)")
+	fac.fill(`#rounds form`, "reason", "The panel discussed the spread of the 95% values.")
+	fac.load("open round 2", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`)))
+	fac.sees("round 2", "Round 2 (open)")
+
+	// Ada revises, seeing the panel without names.
+	openQuestion(t, ada, linkA, 1)
+	ada.sees("round 2 feedback", "Round 2 is open", "What the other experts said")
+	if n := ada.count(`.panel-feedback svg`); n < 1 {
+		t.Errorf("Ada: no panel picture in round 2")
+	}
+	notShown(t, ada, "round 2 feedback", "Bo Example", "Example Field Services")
+	shots.take(ada, "06-expert-round2-panel")
+	before := ada.circles(previewCircles)
+	ada.fill(`form.answer-form`, "values[2]", "0.15")
+	livePreview(t, ada, 3, before)
+	ada.fill(`form.answer-form`, "reason", "After the discussion I expect fewer late failures.")
+	saveAnswer(t, ada)
+	ada.sees("history", "After the discussion I expect fewer late failures.")
+}
+
+// notShown fails when any phrase is visible on the page.
+func notShown(t *testing.T, p *person, where string, phrases ...string) {
+	t.Helper()
+	body := p.text()
+	for _, s := range phrases {
+		if strings.Contains(body, s) {
+			t.Errorf("%s: %s: page shows %q, which this person must not see", p.name, where, s)
+		}
+	}
+}
+
+// revisionsOf counts the saved revisions of the expert named name on
+// question index qi (0-based), read from the database file itself.
+func revisionsOf(t *testing.T, site *site, name string, qi int) int {
+	t.Helper()
+	ctx := context.Background()
+	ws, err := site.DB.Workshops(ctx)
+	if err != nil || len(ws) != 1 {
+		t.Fatalf("workshops: %v, %v", ws, err)
+	}
+	qs, err := site.DB.Questions(ctx, ws[0].ID)
+	if err != nil || len(qs) <= qi {
+		t.Fatalf("questions: %v, %v", qs, err)
+	}
+	es, err := site.DB.Experts(ctx, ws[0].ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	revs, err := site.DB.Revisions(ctx, ws[0].ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	n := 0
+	for _, r := range revs {
+		for _, e := range es {
+			if e.ID == r.ExpertID && strings.HasPrefix(e.Name, name) && r.QuestionID == qs[qi].ID {
+				n++
+			}
+		}
+	}
+	return n
 }
 
 // signIn opens the one-time address and expects the workshop list, with
@@ -140,4 +306,57 @@ func addExpert(t *testing.T, fac *person, wsURL, name, affiliation string) strin
 		t.Fatalf("no readable private link for %s on the page:\n%s", name, clip(body, 2000))
 	}
 	return link
+}
+
+// previewCircles is the selector of the stated points in the fit preview.
+const previewCircles = `#preview svg circle.stated`
+
+// openQuestion follows the link to question n (1-based) from the
+// expert's home page.
+func openQuestion(t *testing.T, ex *person, link string, n int) {
+	t.Helper()
+	ex.open(link)
+	sel := chromedp.CSS(fmt.Sprintf(`.question-list li:nth-child(%d) a[href*="/q/"]`, n))
+	if st := ex.load(fmt.Sprintf("open question %d", n), chromedp.Click(sel)); st != http.StatusOK {
+		t.Fatalf("%s: question %d: status %d", ex.name, n, st)
+	}
+	ex.sees("question page", fmt.Sprintf("Question %d", n))
+}
+
+// typeValues types the expert's values into the quantile fields.
+func typeValues(ex *person, values ...string) {
+	for i, v := range values {
+		ex.fill(`form.answer-form`, fmt.Sprintf("values[%d]", i), v)
+	}
+}
+
+// livePreview waits for the live preview to draw n stated points that
+// differ from before (nil before: any points). When no live picture
+// comes, the expert's fallback is the "Show the fit" button; that is
+// clicked so the scenario can go on, but the missing live preview is an
+// error.
+func livePreview(t *testing.T, ex *person, n int, before []point) []point {
+	t.Helper()
+	beforeJSON, _ := json.Marshal(before)
+	expr := fmt.Sprintf(`(() => {
+		const cs = Array.from(document.querySelectorAll(%q)).map(c => ({x: parseFloat(c.getAttribute("cx")), y: parseFloat(c.getAttribute("cy"))}));
+		return cs.length === %d && JSON.stringify(cs) !== %q && !document.querySelector("#preview[aria-busy=true]");
+	})()`, previewCircles, n, string(beforeJSON))
+	ctx, cancel := context.WithTimeout(ex.ctx, 5*time.Second)
+	defer cancel()
+	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](expr, chromedp.WithPollingInterval(50*time.Millisecond))); err != nil {
+		t.Errorf("%s: the live preview did not redraw %d stated points within 5 s of typing (%v); using the Show the fit button", ex.name, n, err)
+		ex.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
+		ex.waitFor("the fit after Show the fit", expr)
+	}
+	return ex.circles(previewCircles)
+}
+
+// saveAnswer clicks "Save this answer" and expects the saved page.
+func saveAnswer(t *testing.T, ex *person) {
+	t.Helper()
+	if st := ex.load("save", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusOK {
+		t.Fatalf("%s: save: status %d\n%s", ex.name, st, clip(ex.text(), 2000))
+	}
+	ex.sees("after saving", "Saved.")
 }
