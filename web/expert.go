@@ -413,10 +413,14 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 	fit, err := q.Fit(a)
 	if err != nil {
 		var ie *elicit.InputError
-		if errors.As(err, &ie) && ie.Field == "confidence" {
+		switch {
+		case errors.As(err, &ie) && ie.Field == "confidence":
 			// The form takes a percentage; say the rule in its terms.
 			f.set("confidence", "must lie strictly between 0% and 100%")
-		} else {
+		case errors.As(err, &ie) && ie.Field == "counts":
+			// A rule about all the bins together belongs to the whole form.
+			f.set("", "Your chips "+string(ie.Rule)+detailSuffix(ie.Detail)+".")
+		default:
 			f.Fail(err, nil)
 		}
 		return a, fit, false

@@ -32,6 +32,7 @@ type expertRig struct {
 	q       elicit.Question // quantiles at 5/50/95
 	qi      elicit.Question // four-value interval
 	qcal    elicit.Question // calibration, true value hidden
+	qc      elicit.Question // chips in five bins
 	tokens  []string        // one per expert
 	experts []elicit.Expert
 }
@@ -67,7 +68,10 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 	g.qcal = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of last year's audited pumps leaked?",
 		Quantity: "Leak share", Units: "proportion", Lower: 0, Upper: 1,
 		Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
-	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal} {
+	g.qc = elicit.Question{WorkshopID: g.ws.ID, Wording: "Place 20 chips on the share of seals replaced early.",
+		Quantity: "Early replacement share", Lower: 0, Upper: 1, Format: elicit.FormatChips,
+		BinEdges: []float64{0, 0.1, 0.2, 0.3, 0.5, 1}, Chips: 20}
+	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal, &g.qc} {
 		if err := db.AddQuestion(ctx, q); err != nil {
 			t.Fatal(err)
 		}
@@ -595,4 +599,59 @@ func TestLivePreviewInChromium(t *testing.T) {
 	if n := len(g.revisions()); n != 0 {
 		t.Errorf("live preview saved %d revisions", n)
 	}
+}
+
+func TestExpertChipsForm(t *testing.T) {
+	g := newExpertRig(t)
+	code, page := g.get(g.qpath(0, g.qc))
+	if code != http.StatusOK || !strings.Contains(page, "Place your 20 chips") || !strings.Contains(page, "Chips from 0.3 to 0.5") {
+		t.Fatalf("chips page: status %d", code)
+	}
+	chips := func(cs ...string) url.Values {
+		f := url.Values{}
+		for i, c := range cs {
+			f.Set("counts["+strconv.Itoa(i)+"]", c)
+		}
+		return f
+	}
+	resp, body := g.post(g.qpath(0, g.qc)+"/preview", chips("2", "6", "7", "4", "1"))
+	if resp.StatusCode != http.StatusOK || strings.Count(body, `class="stated"`) != 4 {
+		t.Errorf("chips preview: status %d, %d points (want 4 interior edges)", resp.StatusCode, strings.Count(body, `class="stated"`))
+	}
+	// 2 of 20 chips below 0.1: a 1 in 10 chance.
+	if !strings.Contains(body, "1 in 10 chance the value is below 0.1.") {
+		t.Error("chips read-back missing")
+	}
+	for _, c := range []struct {
+		name string
+		form url.Values
+		id   string
+		rule string
+	}{
+		{"too many chips", chips("5", "6", "7", "4", "1"), "", "Your chips " + string(elicit.RuleChipsExceeded)},
+		{"negative", chips("2", "-6", "7", "4", "1"), "f-counts-1", string(elicit.RuleInteger)},
+	} {
+		resp, body := g.post(g.qpath(0, g.qc)+"/save", c.form)
+		msg := shownError(body, c.id)
+		if c.id == "" { // a rule about all bins is shown on the form
+			msg = regexpFind(body, `<p class="form-error" role="alert">([^<]*)<`)
+		}
+		if resp.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(msg, c.rule) {
+			t.Errorf("%s: status %d, message %q, want 422 and %q", c.name, resp.StatusCode, msg, c.rule)
+		}
+		if !strings.Contains(body, `value="`+c.form.Get("counts[1]")+`"`) {
+			t.Errorf("%s: typed counts not shown again", c.name)
+		}
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved", n)
+	}
+}
+
+func regexpFind(body, re string) string {
+	m := regexp.MustCompile(re).FindStringSubmatch(body)
+	if m == nil {
+		return ""
+	}
+	return m[1]
 }
