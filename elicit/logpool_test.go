@@ -1,0 +1,76 @@
+package elicit
+
+import (
+	"math"
+	"testing"
+)
+
+func TestLogPoolFormula(t *testing.T) {
+	// α = Σ wᵢ(αᵢ−1)+1, β = Σ wᵢ(βᵢ−1)+1 with normalised weights (Genest
+	// & Zidek 1986, Statist. Sci. 1: 114–148), worked by hand per row.
+	tests := []struct {
+		name  string
+		ds    []ScaledBeta
+		w     []float64
+		a, b  float64
+		lower float64
+		upper float64
+	}{
+		// 0.25·(2−1) + 0.75·(4−1) + 1 = 3.5; 0.25·7 + 0.75·5 + 1 = 6.5.
+		{"two experts", unitBetas(2, 8, 4, 6), []float64{1, 3}, 3.5, 6.5, 0, 1},
+		// Equal weights: (0.5·(0.5−1) + 0.5·(3−1)) + 1 = 1.75; (0.5·9 + 0.5·1) + 1 = 6.
+		{"equal weights", unitBetas(0.5, 10, 3, 2), nil, 1.75, 6, 0, 1},
+		{"one expert", unitBetas(7, 0.3), []float64{5}, 7, 0.3, 0, 1},
+		{"scaled", []ScaledBeta{{Beta{2, 3}, 5, 9}, {Beta{6, 3}, 5, 9}}, []float64{1, 1}, 4, 3, 5, 9},
+	}
+	for _, tc := range tests {
+		got, err := LogPool(tc.ds, tc.w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(got.Alpha-tc.a) > 1e-14 || math.Abs(got.Beta.Beta-tc.b) > 1e-14 || got.Lower != tc.lower || got.Upper != tc.upper {
+			t.Errorf("%s: %+v, want Beta(%v, %v) on [%v, %v]", tc.name, got, tc.a, tc.b, tc.lower, tc.upper)
+		}
+	}
+}
+
+func TestLogPoolIsGeometricMean(t *testing.T) {
+	// The pooled density is proportional to Πᵢ fᵢ(x)^wᵢ (definition of
+	// the logarithmic pool), so log f(x) − Σ wᵢ log fᵢ(x) must not depend
+	// on x.
+	ds := unitBetas(2, 8, 9, 3, 0.7, 1.4)
+	w := []float64{0.5, 0.3, 0.2}
+	lp, err := LogPool(ds, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	diff := func(x float64) float64 {
+		s := math.Log(lp.PDF(x))
+		for i, d := range ds {
+			s -= w[i] * math.Log(d.PDF(x))
+		}
+		return s
+	}
+	c := diff(0.5)
+	for _, x := range []float64{0.01, 0.2, 0.35, 0.8, 0.99} {
+		if math.Abs(diff(x)-c) > 1e-12 {
+			t.Errorf("at %v: log-ratio %v, at 0.5 %v", x, diff(x), c)
+		}
+	}
+}
+
+func TestLogPoolValidity(t *testing.T) {
+	// With normalised weights α = Σ wᵢαᵢ, which is positive in exact
+	// arithmetic; for subnormal αᵢ the weighted sum underflows to 0 and
+	// the pool cannot be normalised.
+	tiny := math.SmallestNonzeroFloat64
+	_, err := LogPool(unitBetas(tiny, 2, tiny, 3), []float64{1, 1})
+	wantRule(t, err, "alpha", RuleLogPoolValid)
+	_, err = LogPool(unitBetas(2, tiny, 3, tiny), []float64{1, 1})
+	wantRule(t, err, "beta", RuleLogPoolValid)
+	// The αᵢ−1 form would cancel to 0 here; the pool must keep α.
+	got, err := LogPool(unitBetas(1e-17, 2), nil)
+	if err != nil || got.Alpha != 1e-17 {
+		t.Errorf("one expert with alpha 1e-17: %+v, %v", got, err)
+	}
+}

@@ -1,0 +1,417 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// RuleSameBounds is broken when the experts' distributions to be pooled
+// are not all on the same bounds [lower, upper].
+const RuleSameBounds Rule = "all distributions must share the same bounds"
+
+// Component is one expert's distribution in a pool with its normalised
+// weight.
+type Component struct {
+	Dist   ScaledBeta `json:"dist"`
+	Weight float64    `json:"weight"`
+}
+
+// Pool is the linear opinion pool of Beta distributions (Stone 1961, "The
+// opinion pool", Ann. Math. Statist. 32: 1339–1342): the mixture
+//
+//	f(x) = Σᵢ wᵢ fᵢ(x),  F(x) = Σᵢ wᵢ Fᵢ(x),  Σᵢ wᵢ = 1,
+//
+// of the components on one shared [Lower, Upper]. Build it with
+// LinearPool; the zero value has no components.
+type Pool struct {
+	Components []Component `json:"components"`
+	Lower      float64     `json:"lower"`
+	Upper      float64     `json:"upper"`
+
+	lnB []float64 // log B(αᵢ, βᵢ), for the density
+}
+
+// LinearPool returns the linear opinion pool of dists with the given
+// weights. Weights must be finite and non-negative, not all zero, and one
+// per distribution; they are normalised to sum to 1. A nil weights slice
+// means equal weights. Components of weight zero are left out of the pool.
+// Every distribution is validated and all must share the same bounds.
+func LinearPool(dists []ScaledBeta, weights []float64) (Pool, error) {
+	w, err := poolWeights(dists, weights)
+	if err != nil {
+		return Pool{}, err
+	}
+	p := Pool{Lower: dists[0].Lower, Upper: dists[0].Upper}
+	for i, d := range dists {
+		if w[i] == 0 {
+			continue
+		}
+		p.Components = append(p.Components, Component{Dist: d, Weight: w[i]})
+		p.lnB = append(p.lnB, mathext.Lbeta(d.Alpha, d.Beta.Beta))
+	}
+	return p, nil
+}
+
+// poolWeights validates the inputs shared by LinearPool and LogPool and
+// returns the normalised weights.
+func poolWeights(dists []ScaledBeta, weights []float64) ([]float64, error) {
+	if len(dists) == 0 {
+		return nil, inputErr("experts", RuleCount, "need at least 1 distribution, got 0")
+	}
+	for i, d := range dists {
+		if err := d.Validate(); err != nil {
+			return nil, prefixField(fmt.Sprintf("experts[%d]", i), err)
+		}
+		if d.Lower != dists[0].Lower || d.Upper != dists[0].Upper {
+			return nil, inputErr(fmt.Sprintf("experts[%d].lower", i), RuleSameBounds,
+				"[%v, %v] differs from [%v, %v]", d.Lower, d.Upper, dists[0].Lower, dists[0].Upper)
+		}
+	}
+	if weights == nil {
+		w := make([]float64, len(dists))
+		for i := range w {
+			w[i] = 1 / float64(len(dists))
+		}
+		return w, nil
+	}
+	if len(weights) != len(dists) {
+		return nil, inputErr("weights", RuleLengthMatch, "%d distributions, %d weights", len(dists), len(weights))
+	}
+	var maxW float64
+	for i, x := range weights {
+		f := fmt.Sprintf("weights[%d]", i)
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			return nil, inputErr(f, RuleFinite, "got %v", x)
+		}
+		if x < 0 {
+			return nil, inputErr(f, RuleNonNegative, "got %v", x)
+		}
+		maxW = math.Max(maxW, x)
+	}
+	if maxW == 0 {
+		return nil, inputErr("weights", RuleWeightsNotAllZero, "")
+	}
+	// Dividing by the largest weight first keeps the sum finite for
+	// weights near the largest float64.
+	w := make([]float64, len(weights))
+	var sum float64
+	for i, x := range weights {
+		w[i] = x / maxW
+		sum += w[i]
+	}
+	for i := range w {
+		w[i] /= sum
+	}
+	return w, nil
+}
+
+// prefixField puts prefix in front of the field of an *InputError.
+func prefixField(prefix string, err error) error {
+	if ie, ok := err.(*InputError); ok {
+		c := *ie
+		c.Field = prefix + "." + c.Field
+		return &c
+	}
+	return err
+}
+
+func (p Pool) width() float64 { return p.Upper - p.Lower }
+
+// unitCDF is Σ wᵢ Iᵤ(αᵢ, βᵢ) at u in [0, 1].
+func (p Pool) unitCDF(u float64) float64 {
+	switch {
+	case u <= 0:
+		return 0
+	case u >= 1:
+		return 1
+	}
+	var s float64
+	for _, c := range p.Components {
+		s += c.Weight * mathext.RegIncBeta(c.Dist.Alpha, c.Dist.Beta.Beta, u)
+	}
+	return s
+}
+
+// unitDensity is the unit-scale density f(u) and its derivative
+// f′(u) = Σ wᵢ fᵢ(u) ((αᵢ−1)/u − (βᵢ−1)/(1−u)) at u in (0, 1).
+func (p Pool) unitDensity(u float64) (f, df float64) {
+	if !(u > 0 && u < 1) {
+		return 0, 0
+	}
+	lu, l1u := math.Log(u), math.Log1p(-u)
+	for i, c := range p.Components {
+		a, b := c.Dist.Alpha, c.Dist.Beta.Beta
+		fi := c.Weight * math.Exp((a-1)*lu+(b-1)*l1u-p.lnB[i])
+		f += fi
+		df += fi * ((a-1)/u - (b-1)/(1-u))
+	}
+	return f, df
+}
+
+// PDF is the pooled density Σ wᵢ fᵢ(x); 0 outside [Lower, Upper].
+func (p Pool) PDF(x float64) float64 {
+	var s float64
+	for _, c := range p.Components {
+		s += c.Weight * c.Dist.PDF(x)
+	}
+	return s
+}
+
+// CDF is the pooled probability P(X ≤ x) = Σ wᵢ Fᵢ(x).
+func (p Pool) CDF(x float64) float64 { return p.unitCDF((x - p.Lower) / p.width()) }
+
+// Mean is Σ wᵢ μᵢ, the weighted mean of the components' means.
+func (p Pool) Mean() float64 {
+	var m float64
+	for _, c := range p.Components {
+		m += c.Weight * c.Dist.Mean()
+	}
+	return m
+}
+
+// Variance follows the law of total variance for a mixture,
+// Var X = Σ wᵢ σᵢ² + Σ wᵢ (μᵢ − μ)², with μ the pooled mean (e.g.
+// Frühwirth-Schnatter 2006, "Finite Mixture and Markov Switching Models",
+// §1.2.4).
+func (p Pool) Variance() float64 {
+	m := p.Mean()
+	var v float64
+	for _, c := range p.Components {
+		d := c.Dist.Mean() - m
+		v += c.Weight * (c.Dist.Variance() + d*d)
+	}
+	return v
+}
+
+// SD is the pooled standard deviation.
+func (p Pool) SD() float64 { return math.Sqrt(p.Variance()) }
+
+// Quantile is the pooled inverse CDF at prob in [0, 1]: the root of
+// F(x) = prob found by quantileIn between the smallest and the largest of
+// the components' own quantiles at prob, which bracket it because
+// Σ wᵢ Fᵢ(minᵢ qᵢ) ≤ prob ≤ Σ wᵢ Fᵢ(maxᵢ qᵢ). It returns Lower for
+// prob ≤ 0 and Upper for prob ≥ 1, and NaN for a pool with no components.
+func (p Pool) Quantile(prob float64) float64 {
+	if len(p.Components) == 0 || math.IsNaN(prob) {
+		return math.NaN()
+	}
+	switch {
+	case prob <= 0:
+		return p.Lower
+	case prob >= 1:
+		return p.Upper
+	}
+	lo, hi, mid := p.componentRange(prob)
+	u, _, _ := p.quantileIn(prob, lo, hi, mid)
+	return p.Lower + p.width()*u
+}
+
+// Quantiles returns the pooled quantiles at probs, which must pass
+// CheckProbs (finite, strictly inside (0, 1), strictly increasing). The
+// first is bracketed as by Quantile. The increasing order lets every
+// later root be bracketed by the previous root and the upper bound, and
+// started from a second-order Taylor step of the quantile function from
+// the previous root, so most take one or two CDF evaluations.
+func (p Pool) Quantiles(probs []float64) ([]float64, error) {
+	if err := CheckProbs("probs", probs); err != nil {
+		return nil, err
+	}
+	if len(p.Components) == 0 {
+		return nil, inputErr("experts", RuleCount, "the pool has no components")
+	}
+	out := make([]float64, len(probs))
+	if len(probs) == 0 {
+		return out, nil
+	}
+	lo, hi, x0 := p.componentRange(probs[0])
+	for i, pr := range probs {
+		if i > 0 {
+			hi = 1
+		}
+		u, f, df := p.quantileIn(pr, lo, hi, x0)
+		out[i] = p.Lower + p.width()*u
+		lo, x0 = u, u
+		if i+1 < len(probs) && f > 0 && !math.IsInf(f, 0) && !math.IsInf(df, 0) {
+			// Second-order Taylor step of Q: Q′ = 1/f, Q″ = −f′/f³.
+			dp := probs[i+1] - pr
+			x0 = u + dp/f - 0.5*df/(f*f*f)*dp*dp
+		}
+	}
+	return out, nil
+}
+
+// componentRange is the smallest, the largest and the weighted mean of
+// the components' unit quantiles at prob.
+func (p Pool) componentRange(prob float64) (lo, hi, mean float64) {
+	lo, hi = 1, 0
+	for _, c := range p.Components {
+		q := c.Dist.Beta.Quantile(prob)
+		lo, hi = math.Min(lo, q), math.Max(hi, q)
+		mean += c.Weight * q
+	}
+	return lo, hi, math.Min(math.Max(mean, lo), hi)
+}
+
+// Tolerances of quantileIn on the unit scale.
+const (
+	// poolQuantileXTol is the relative width, in u near 0 or in 1−u near
+	// 1, below which a bracket counts as converged.
+	poolQuantileXTol = 1e-14
+	// poolHalleyAccept is the relative size of a Halley step below which
+	// the step is taken as the answer without another CDF evaluation:
+	// Halley's error after a step δ is of order δ³ times the density's
+	// relative curvature, far below 1e-14 relative for δ ≤ 1e-6 relative.
+	poolHalleyAccept = 1e-6
+	// poolNewtonAccept is the same for a plain Newton step, whose error
+	// is of order δ² times the relative slope of the density.
+	poolNewtonAccept = 1e-9
+	// poolQuantilePTol is the CDF residual treated as an exact root: a few
+	// rounding errors of a sum of at most a few dozen terms near 1.
+	poolQuantilePTol = 4e-16
+)
+
+// quantileIn solves F(u) = prob for u in the bracket [lo, hi], where
+// F(lo) ≤ prob ≤ F(hi), on the unit scale, starting from x0 (a start
+// outside the bracket is replaced by a bisection point). It is a
+// safeguarded Halley iteration, the bracketing scheme of rtsafe (Press et
+// al. 2007, "Numerical Recipes", 3rd ed., §9.4) with Halley's step
+// δ = (r/f) / (1 − (r/f)·f′/(2f)) for residual r = F(u) − prob (§9.4.2):
+// each evaluation narrows the bracket, and a step that leaves the
+// bracket, or follows a step that failed to halve the residual, is
+// replaced by a bisection step. Bisection splits the bracket
+// geometrically when it spans orders of magnitude near 0 (or near 1, in
+// 1−u), so extreme shapes still converge in a few dozen steps. The root
+// is exact to about 1e-14 relative to min(u, 1−u), or to a CDF residual
+// of poolQuantilePTol. It also returns the density and its derivative at
+// the last point evaluated.
+func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df float64) {
+	if lo >= hi {
+		f, df = p.unitDensity(lo)
+		return lo, f, df
+	}
+	x := x0
+	if !(x > lo && x < hi) {
+		x = bisect(lo, hi)
+	}
+	prevR := math.Inf(1)
+	for iter := 0; iter < 300; iter++ {
+		r := p.unitCDF(x) - prob
+		f, df = p.unitDensity(x)
+		if math.Abs(r) <= poolQuantilePTol {
+			return x, f, df
+		}
+		if r < 0 {
+			lo = x
+		} else {
+			hi = x
+		}
+		if converged(lo, hi) {
+			return 0.5 * (lo + hi), f, df
+		}
+		next, accept := math.NaN(), poolNewtonAccept
+		if f > 0 && !math.IsInf(f, 0) && math.Abs(r) <= 0.5*prevR {
+			d := r / f
+			if h := 1 - 0.5*d*df/f; h > 0.5 && !math.IsInf(df, 0) {
+				d, accept = d/h, poolHalleyAccept // Halley; else plain Newton
+			}
+			next = x - d
+		}
+		if !(next > lo && next < hi) {
+			next = bisect(lo, hi)
+		} else if math.Abs(next-x) <= accept*math.Min(next, 1-next) {
+			return next, f, df
+		}
+		prevR = math.Abs(r)
+		x = next
+	}
+	f, df = p.unitDensity(x)
+	return x, f, df
+}
+
+// converged reports whether a < b are equal to poolQuantileXTol relative
+// to the distance from the nearer bound of [0, 1].
+func converged(a, b float64) bool {
+	scale := math.Min(b, 1-a)
+	return b-a <= poolQuantileXTol*scale || b-a <= 1e-300
+}
+
+// bisect splits [lo, hi] in (0, 1): geometrically near 0 when the bracket
+// spans more than a factor 16 there, likewise in 1−u near 1, else in half.
+func bisect(lo, hi float64) float64 {
+	switch {
+	case lo > 0 && hi < 0.5 && hi > 16*lo:
+		return math.Sqrt(lo * hi)
+	case lo == 0 && hi < 0.5:
+		return hi / 16
+	case hi < 1 && lo > 0.5 && (1-lo) > 16*(1-hi):
+		return 1 - math.Sqrt((1-lo)*(1-hi))
+	case hi == 1 && lo > 0.5:
+		return 1 - (1-lo)/16
+	}
+	return 0.5 * (lo + hi)
+}
+
+// Representation is the single Beta that best stands for a pool, with how
+// far it is from the pool.
+type Representation struct {
+	Dist  ScaledBeta `json:"dist"`
+	Probs []float64  `json:"probs"` // the grid: 0.01, 0.02, …, 0.99
+	// SSE is the least-squares objective Σ (F_B(Q(p)) − p)² over the
+	// grid, with F_B the Beta's CDF and Q the pool's quantile function.
+	SSE float64 `json:"sse"`
+	// MaxCDFError is maxₚ |F_B(Q(p)) − p| over the grid: how far, in
+	// probability, the Beta's CDF strays from the pool's.
+	MaxCDFError float64 `json:"max_cdf_error"`
+	// QuantileDiffs are Q_B(p) − Q(p) at p = 0.05, 0.5 and 0.95, on the
+	// quantity's scale: the same distance read as values.
+	QuantileDiffs [3]float64 `json:"quantile_diffs"`
+}
+
+// representationGrid is the number of grid probabilities k/(n+1).
+const representationGrid = 99
+
+// BestBeta returns the single Beta on [Lower, Upper] that best represents
+// the pool: least squares on the probability scale at the pool's
+// quantiles,
+//
+//	minimise Σₖ (F(Q(pₖ); α, β) − pₖ)²,  pₖ = k/100, k = 1…99,
+//
+// the criterion FitQuantiles applies to an expert's judgement (O'Hagan et
+// al. 2006, "Uncertain Judgements", §6.4), solved by the same search in
+// log-parameter space with gonum/optimize. For a pool of one Beta it
+// recovers that Beta. The report says how far the Beta is from the pool.
+func (p Pool) BestBeta() (Representation, error) {
+	probs := make([]float64, representationGrid)
+	for k := range probs {
+		probs[k] = float64(k+1) / (representationGrid + 1)
+	}
+	qs, err := p.Quantiles(probs)
+	if err != nil {
+		return Representation{}, err
+	}
+	u := make([]float64, len(qs))
+	for k, q := range qs {
+		u[k] = (q - p.Lower) / p.width()
+		if !(u[k] > 0 && u[k] < 1) {
+			return Representation{}, fmt.Errorf("%w: the pool's %v quantile lies on a bound", ErrFitFailed, probs[k])
+		}
+	}
+	d, sse, resid, err := fitCumulative(u, probs)
+	if err != nil {
+		return Representation{}, err
+	}
+	r := Representation{
+		Dist:  ScaledBeta{Beta: d, Lower: p.Lower, Upper: p.Upper},
+		Probs: probs,
+		SSE:   sse,
+	}
+	for _, e := range resid {
+		r.MaxCDFError = math.Max(r.MaxCDFError, math.Abs(e))
+	}
+	for i, k := range [3]int{4, 49, 94} { // p = 0.05, 0.5, 0.95
+		r.QuantileDiffs[i] = r.Dist.Quantile(probs[k]) - qs[k]
+	}
+	return r, nil
+}

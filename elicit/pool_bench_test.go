@@ -1,0 +1,72 @@
+package elicit
+
+import "testing"
+
+// benchExperts is an invented panel of 20 experts on a failure rate, with
+// shapes from vague to confident and unequal weights.
+func benchExperts() ([]ScaledBeta, []float64) {
+	ds := make([]ScaledBeta, 20)
+	w := make([]float64, 20)
+	for i := range ds {
+		a := 1.5 + float64(i%5)*2.5
+		b := 20 + float64(i)*15
+		ds[i] = Unit(Beta{a, b})
+		w[i] = 1 + float64(i%3)
+	}
+	return ds, w
+}
+
+func gridProbs(n int) []float64 {
+	ps := make([]float64, n)
+	for k := range ps {
+		ps[k] = float64(k+1) / float64(n+1)
+	}
+	return ps
+}
+
+func BenchmarkPoolQuantiles20x99(b *testing.B) {
+	ds, w := benchExperts()
+	ps := gridProbs(99)
+	b.ReportAllocs()
+	for b.Loop() {
+		p, err := LinearPool(ds, w)
+		if err != nil {
+			b.Fatal(err)
+		}
+		if _, err := p.Quantiles(ps); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkPoolBestBeta20(b *testing.B) {
+	ds, w := benchExperts()
+	p, err := LinearPool(ds, w)
+	if err != nil {
+		b.Fatal(err)
+	}
+	for b.Loop() {
+		if _, err := p.BestBeta(); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkLogPool(b *testing.B) {
+	ds, w := benchExperts()
+	b.ReportAllocs()
+	for b.Loop() {
+		if _, err := LogPool(ds, w); err != nil {
+			b.Fatal(err)
+		}
+	}
+}
+
+func BenchmarkHDI(b *testing.B) {
+	d := Beta{Alpha: 5.4, Beta: 71.2}
+	for b.Loop() {
+		if _, _, err := HDI(d, 0.95); err != nil {
+			b.Fatal(err)
+		}
+	}
+}

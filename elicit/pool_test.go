@@ -1,0 +1,300 @@
+package elicit
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/integrate/quad"
+)
+
+func unitBetas(ab ...float64) []ScaledBeta {
+	var ds []ScaledBeta
+	for i := 0; i+1 < len(ab); i += 2 {
+		ds = append(ds, Unit(Beta{ab[i], ab[i+1]}))
+	}
+	return ds
+}
+
+func mustPool(t *testing.T, ds []ScaledBeta, w []float64) Pool {
+	t.Helper()
+	p, err := LinearPool(ds, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// parseComponents reads "alpha:beta:weight|..." from the SciPy table.
+func parseComponents(t *testing.T, s string) ([]ScaledBeta, []float64) {
+	t.Helper()
+	var ds []ScaledBeta
+	var ws []float64
+	for _, c := range strings.Split(s, "|") {
+		f := strings.Split(c, ":")
+		v := make([]float64, 3)
+		for i := range v {
+			x, err := strconv.ParseFloat(f[i], 64)
+			if err != nil {
+				t.Fatalf("bad component %q", c)
+			}
+			v[i] = x
+		}
+		ds = append(ds, Unit(Beta{v[0], v[1]}))
+		ws = append(ws, v[2])
+	}
+	return ds, ws
+}
+
+func TestPoolQuantileScipy(t *testing.T) {
+	// Against scipy.optimize.brentq on the mixture of scipy.stats.beta
+	// CDFs (testdata/scipy), to 1e-10 absolute as the issue asks.
+	byPool := map[string][]scipyRow{}
+	var order []string
+	for _, r := range readScipy(t, "pool_q") {
+		if _, ok := byPool[r.components]; !ok {
+			order = append(order, r.components)
+		}
+		byPool[r.components] = append(byPool[r.components], r)
+	}
+	for _, key := range order {
+		ds, ws := parseComponents(t, key)
+		p := mustPool(t, ds, ws)
+		rows := byPool[key]
+		probs := make([]float64, len(rows))
+		for i, r := range rows {
+			probs[i] = r.x
+		}
+		qs, err := p.Quantiles(probs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, r := range rows {
+			one := p.Quantile(r.x)
+			if math.Abs(qs[i]-r.value) > 1e-10 || math.Abs(one-r.value) > 1e-10 {
+				t.Errorf("pool %s at %v: Quantiles %.17g, Quantile %.17g, scipy %.17g", key, r.x, qs[i], one, r.value)
+			}
+			if e := math.Abs(p.CDF(qs[i]) - r.x); e > 1e-13 {
+				t.Errorf("pool %s: F(Q(%v)) off by %v", key, r.x, e)
+			}
+		}
+	}
+}
+
+func TestPoolOfOneIsThatBeta(t *testing.T) {
+	// A mixture of one component, or of identical components, is that
+	// component (definition of the linear pool, Stone 1961).
+	probs := []float64{1e-6, 0.001, 0.05, 0.3, 0.5, 0.77, 0.95, 0.999, 1 - 1e-6}
+	for _, d := range []Beta{{2, 8}, {0.05, 0.05}, {0.2, 1000}, {5000, 3}, {1, 1}, {0.5, 30}} {
+		for _, n := range []int{1, 4} {
+			ds := make([]ScaledBeta, n)
+			ws := make([]float64, n)
+			for i := range ds {
+				ds[i], ws[i] = Unit(d), float64(i+1)
+			}
+			p := mustPool(t, ds, ws)
+			qs, err := p.Quantiles(probs)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for i, pr := range probs {
+				want := d.Quantile(pr)
+				if !relClose(qs[i], want, 1e-10) && math.Abs(qs[i]-want) > 1e-10*math.Min(want, 1-want) {
+					t.Errorf("%d × %v at %v: %.17g, Beta's own quantile %.17g", n, d, pr, qs[i], want)
+				}
+			}
+			if math.Abs(p.Mean()-d.Mean()) > 1e-15 || math.Abs(p.Variance()-d.Variance()) > 1e-15 {
+				t.Errorf("%d × %v: mean %v var %v", n, d, p.Mean(), p.Variance())
+			}
+		}
+	}
+}
+
+func TestPoolMoments(t *testing.T) {
+	// Mixture mean Σ wᵢμᵢ and the law of total variance, checked against
+	// direct integration of x f(x) and x² f(x) by 64-point Gauss–Legendre
+	// quadrature (gonum/integrate/quad); smooth components (α, β ≥ 2) so
+	// the quadrature is exact to rounding.
+	ds := unitBetas(2, 8, 9, 3, 20, 20)
+	w := []float64{1, 2, 1}
+	p := mustPool(t, ds, w)
+	mean := quad.Fixed(func(x float64) float64 { return x * p.PDF(x) }, 0, 1, 64, quad.Legendre{}, 0)
+	m2 := quad.Fixed(func(x float64) float64 { return x * x * p.PDF(x) }, 0, 1, 64, quad.Legendre{}, 0)
+	if math.Abs(p.Mean()-mean) > 1e-12 {
+		t.Errorf("mean %v, by quadrature %v", p.Mean(), mean)
+	}
+	if v := m2 - mean*mean; math.Abs(p.Variance()-v) > 1e-12 {
+		t.Errorf("variance %v, by quadrature %v", p.Variance(), v)
+	}
+	// Weighted mean of means by hand: (0.2 + 2·0.75 + 0.5)/4.
+	if want := (0.2 + 2*0.75 + 0.5) / 4; math.Abs(p.Mean()-want) > 1e-15 {
+		t.Errorf("mean %v, want %v", p.Mean(), want)
+	}
+	if math.Abs(p.SD()-math.Sqrt(p.Variance())) > 0 {
+		t.Errorf("SD %v", p.SD())
+	}
+	if got := quad.Fixed(p.PDF, 0, 1, 64, quad.Legendre{}, 0); math.Abs(got-1) > 1e-12 {
+		t.Errorf("density integrates to %v", got)
+	}
+}
+
+func TestPoolScaledBounds(t *testing.T) {
+	// On [10, 30] every value is 10 + 20·(the unit pool's value).
+	unit := mustPool(t, unitBetas(2, 5, 6, 2), []float64{3, 1})
+	var ds []ScaledBeta
+	for _, c := range unit.Components {
+		ds = append(ds, ScaledBeta{Beta: c.Dist.Beta, Lower: 10, Upper: 30})
+	}
+	sc := mustPool(t, ds, []float64{3, 1})
+	for _, pr := range []float64{0.1, 0.5, 0.9} {
+		if got, want := sc.Quantile(pr), 10+20*unit.Quantile(pr); math.Abs(got-want) > 1e-12 {
+			t.Errorf("quantile %v: %v, want %v", pr, got, want)
+		}
+	}
+	if got, want := sc.Mean(), 10+20*unit.Mean(); math.Abs(got-want) > 1e-12 {
+		t.Errorf("mean %v, want %v", got, want)
+	}
+	if got, want := sc.SD(), 20*unit.SD(); math.Abs(got-want) > 1e-12 {
+		t.Errorf("sd %v, want %v", got, want)
+	}
+	if got, want := sc.CDF(18), unit.CDF(0.4); math.Abs(got-want) > 1e-15 {
+		t.Errorf("CDF %v, want %v", got, want)
+	}
+	if got, want := sc.PDF(18), unit.PDF(0.4)/20; math.Abs(got-want) > 1e-14 {
+		t.Errorf("PDF %v, want %v", got, want)
+	}
+	if sc.Quantile(0) != 10 || sc.Quantile(1) != 30 {
+		t.Errorf("end quantiles %v %v", sc.Quantile(0), sc.Quantile(1))
+	}
+}
+
+func TestPoolWeightsNormalised(t *testing.T) {
+	p := mustPool(t, unitBetas(2, 8, 9, 3, 4, 4), []float64{2, 0, 6})
+	if len(p.Components) != 2 || p.Components[0].Weight != 0.25 || p.Components[1].Weight != 0.75 {
+		t.Errorf("components %+v", p.Components)
+	}
+	eq := mustPool(t, unitBetas(2, 8, 9, 3), nil)
+	if eq.Components[0].Weight != 0.5 || eq.Components[1].Weight != 0.5 {
+		t.Errorf("nil weights: %+v", eq.Components)
+	}
+	huge := mustPool(t, unitBetas(2, 8, 9, 3), []float64{math.MaxFloat64, math.MaxFloat64})
+	if huge.Components[0].Weight != 0.5 {
+		t.Errorf("huge weights: %+v", huge.Components)
+	}
+}
+
+func TestLinearPoolBadInput(t *testing.T) {
+	good := unitBetas(2, 8, 9, 3)
+	tests := []struct {
+		name  string
+		ds    []ScaledBeta
+		w     []float64
+		field string
+		rule  Rule
+	}{
+		{"no experts", nil, nil, "experts", RuleCount},
+		{"bad alpha", unitBetas(2, 8, -1, 3), nil, "experts[1].alpha", RulePositive},
+		{"NaN beta", unitBetas(2, math.NaN()), nil, "experts[0].beta", RuleFinite},
+		{"bad bounds", []ScaledBeta{{Beta{2, 2}, 1, 1}}, nil, "experts[0].lower", RuleBoundsOrder},
+		{"different bounds", []ScaledBeta{Unit(Beta{2, 2}), {Beta{2, 2}, 0, 2}}, nil, "experts[1].lower", RuleSameBounds},
+		{"too few weights", good, []float64{1}, "weights", RuleLengthMatch},
+		{"NaN weight", good, []float64{1, math.NaN()}, "weights[1]", RuleFinite},
+		{"Inf weight", good, []float64{math.Inf(1), 1}, "weights[0]", RuleFinite},
+		{"negative weight", good, []float64{1, -0.5}, "weights[1]", RuleNonNegative},
+		{"all zero", good, []float64{0, 0}, "weights", RuleWeightsNotAllZero},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			_, err := LinearPool(tc.ds, tc.w)
+			wantRule(t, err, tc.field, tc.rule)
+			_, err = LogPool(tc.ds, tc.w)
+			wantRule(t, err, tc.field, tc.rule)
+		})
+	}
+	p := mustPool(t, good, nil)
+	for _, tc := range []struct {
+		probs []float64
+		field string
+		rule  Rule
+	}{
+		{[]float64{0.5, 0.5}, "probs[1]", RuleProbIncreasing},
+		{[]float64{0}, "probs[0]", RuleProbOpen},
+		{[]float64{0.2, math.NaN()}, "probs[1]", RuleFinite},
+	} {
+		_, err := p.Quantiles(tc.probs)
+		wantRule(t, err, tc.field, tc.rule)
+	}
+	if _, err := (Pool{}).Quantiles([]float64{0.5}); err == nil {
+		t.Error("empty pool: no error")
+	}
+	if _, err := (Pool{}).BestBeta(); err == nil {
+		t.Error("empty pool BestBeta: no error")
+	}
+	if q := (Pool{}).Quantile(0.5); !math.IsNaN(q) {
+		t.Errorf("empty pool quantile %v", q)
+	}
+}
+
+func TestBestBetaOfOneBeta(t *testing.T) {
+	// The pool of one Beta is represented by that Beta, with no distance.
+	for _, d := range []Beta{{2, 8}, {0.7, 12}, {300, 40}} {
+		r, err := mustPool(t, []ScaledBeta{Unit(d), Unit(d)}, nil).BestBeta()
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !relClose(r.Dist.Alpha, d.Alpha, 1e-5) || !relClose(r.Dist.Beta.Beta, d.Beta, 1e-5) {
+			t.Errorf("%v: best Beta %v", d, r.Dist.Beta)
+		}
+		if r.MaxCDFError > 1e-7 || r.SSE > 1e-12 {
+			t.Errorf("%v: distance %v, SSE %v", d, r.MaxCDFError, r.SSE)
+		}
+	}
+}
+
+func TestBestBetaReportsDistance(t *testing.T) {
+	// Two experts who disagree (invented): the pool is bimodal, so the
+	// best single Beta is visibly off; the report must say by how much,
+	// and the least-squares Beta must beat the moment-matched one on the
+	// criterion it minimises.
+	p := mustPool(t, []ScaledBeta{
+		{Beta{4, 36}, 0, 1}, {Beta{30, 30}, 0, 1},
+	}, []float64{1, 1})
+	r, err := p.BestBeta()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(r.Probs) != 99 || r.Probs[0] != 0.01 || r.Probs[98] != 0.99 {
+		t.Fatalf("grid %v", r.Probs)
+	}
+	qs, _ := p.Quantiles(r.Probs)
+	var sse, maxE float64
+	for k, q := range qs {
+		e := r.Dist.CDF(q) - r.Probs[k]
+		sse += e * e
+		maxE = math.Max(maxE, math.Abs(e))
+	}
+	if math.Abs(sse-r.SSE) > 1e-12 || math.Abs(maxE-r.MaxCDFError) > 1e-12 {
+		t.Errorf("reported SSE %v max %v, recomputed %v %v", r.SSE, r.MaxCDFError, sse, maxE)
+	}
+	if maxE < 0.02 {
+		t.Errorf("a bimodal pool fitted within %v: implausible", maxE)
+	}
+	for i, pr := range []float64{0.05, 0.5, 0.95} {
+		if want := r.Dist.Quantile(pr) - p.Quantile(pr); math.Abs(r.QuantileDiffs[i]-want) > 1e-10 {
+			t.Errorf("quantile difference at %v: %v, want %v", pr, r.QuantileDiffs[i], want)
+		}
+	}
+	// Moment-matched Beta: α+β = m(1−m)/v − 1 (method of moments).
+	m, v := p.Mean(), p.Variance()
+	s := m*(1-m)/v - 1
+	mm := Beta{m * s, (1 - m) * s}
+	var mmSSE float64
+	for k, q := range qs {
+		e := mm.CDF(q) - r.Probs[k]
+		mmSSE += e * e
+	}
+	if !(r.SSE < mmSSE) {
+		t.Errorf("least-squares SSE %v not below moment-matched %v", r.SSE, mmSSE)
+	}
+}
