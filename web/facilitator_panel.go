@@ -167,15 +167,10 @@ func (st questionState) chartView() chart.PanelView {
 	}
 	if st.Pool != nil {
 		p := st.Pool
-		label := "Linear pool (equal weights)"
-		if st.Weights.Scheme != elicit.WeightsEqual {
-			label = "Linear pool (" + string(st.Weights.Scheme) + " weights)"
-		}
-		v.Curves = append(v.Curves, chart.Curve{Label: label, Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile})
+		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile})
 	}
 	if a := st.current(); a != nil {
-		role := chart.RoleAgreed
-		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: role, Dist: a.Dist})
+		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
 	}
 	return v
 }

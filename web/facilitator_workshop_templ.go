@@ -637,7 +637,7 @@ func rosterSection(v workshopView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 		} else {
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 54, "<table class=\"table\"><thead><tr><th scope=\"col\">Name</th><th scope=\"col\">Affiliation</th><th scope=\"col\">Expertise</th><th scope=\"col\">Access</th><th scope=\"col\" class=\"num\">Answered this round</th><th scope=\"col\">Link</th></tr></thead> <tbody>")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 54, "<table class=\"table\"><thead><tr><th scope=\"col\">Name</th><th scope=\"col\">Affiliation</th><th scope=\"col\">Expertise</th><th scope=\"col\">Access</th><th scope=\"col\" class=\"num\">Answered this round</th><th scope=\"col\">Private link</th></tr></thead> <tbody>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
