@@ -19,8 +19,6 @@ type PanelView struct {
 	Curves   []Curve
 }
 
-const legendX = twinLeft + twinPlotW + 22
-
 type legendGeom struct {
 	Y, TextY string
 	X1, X2   string
@@ -69,15 +67,18 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	g := newTwin(v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false)
-	rows := 0
+	// The legend sits under the plots in two columns, so the picture keeps
+	// the plots' width and stays legible when a phone shrinks it.
+	legendTop := g.Height + 4
+	colW := (twinPlotW + twinLeft) / 2
 	var words []string
 	for i, c := range curves {
 		l := g.Lines[i]
-		y := twinTop + 8 + float64(rows)*22
-		rows++
+		x := twinLeft/2 + float64(i%2)*colW
+		y := legendTop + float64(i/2)*24
 		lg := legendGeom{
-			Y: coord(y), TextY: coord(y + 4.5), X1: coord(legendX), X2: coord(legendX + 34),
-			TextX: coord(legendX + 42), Label: c.Label, Role: l.Role,
+			Y: coord(y), TextY: coord(y + 5), X1: coord(x), X2: coord(x + 38),
+			TextX: coord(x + 46), Label: c.Label, Role: l.Role,
 			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
 		}
 		p := [3]float64{}
@@ -92,10 +93,8 @@ func newPanelModel(v PanelView) panelModel {
 		words = append(words, fmt.Sprintf("%s (%s line): median %s, 90%% between %s and %s",
 			c.Label, l.DashName, lg.P50, lg.P5, lg.P95))
 	}
-	if lh := twinTop + 8 + float64(rows)*22 + 10; lh > g.Height {
-		g.Height = lh
-	}
-	g.ViewBox = "0 0 " + coord(legendX+190) + " " + coord(g.Height)
+	g.Height = legendTop + float64((len(curves)+1)/2)*24 + 8
+	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
 	m.Twin = g
 	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
 	var b strings.Builder
