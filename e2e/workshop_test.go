@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/json"
 	"fmt"
+	"math"
 	"net/http"
 	"regexp"
 	"strings"
@@ -11,6 +12,8 @@ import (
 	"time"
 
 	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // The whole workshop as the people in the room do it, in a real browser.
@@ -168,6 +171,259 @@ func TestWorkshopInBrowser(t *testing.T) {
 	ada.fill(`form.answer-form`, "reason", "After the discussion I expect fewer late failures.")
 	saveAnswer(t, ada)
 	ada.sees("history", "After the discussion I expect fewer late failures.")
+
+	// The facilitator's question panel: both experts by name, the pool.
+	fac.open(wsURL)
+	fac.load("open question 1's panel", chromedp.Click(chromedp.CSS(`#questions tbody tr:nth-child(1) a[href*="/q/"]`)))
+	fac.sees("question panel", "first-year failure proportion", "Ada Invented", "Bo Example",
+		"Linear opinion pool", "Pool (mixture)", "Best single Beta", "After the discussion I expect fewer late failures.")
+	if n := fac.count(`#chart svg`); n < 1 {
+		t.Errorf("facilitator: no overlaid picture on the question panel")
+	}
+	shots.take(fac, "02-facilitator-question-panel")
+
+	// Agreeing without a rationale is refused and saves nothing.
+	agree := `form[action$="/agree"]`
+	fac.do("choose the pool's Beta", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=pool]`)))
+	if st := fac.load("agree without a rationale", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("agreeing without a rationale: status %d, want 422", st)
+	}
+	fac.sees("agreement refused", "Rationale (required)", "is required")
+	if ps := agreedPriors(t, site); len(ps) != 0 {
+		t.Fatalf("a refused agreement was saved: %+v", ps)
+	}
+	rationale := "The panel accepts the pool: the two experts' medians differ, and the pool keeps both views (invented)."
+	fac.do("choose the pool's Beta", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=pool]`)))
+	fac.fill(agree, "rationale", rationale)
+	if st := fac.load("record the agreed prior", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("record the agreed prior: status %d\n%s", st, clip(fac.text(), 2000))
+	}
+	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2")
+
+	// The export, downloaded with the facilitator's own session.
+	raw := eval[string](fac, "download the JSON export", fmt.Sprintf(`fetch(%q, {credentials: "same-origin"}).then(r => r.ok ? r.text() : Promise.reject(new Error("status " + r.status)))`, wsURL+"export.json"))
+	checkExport(t, site, []byte(raw), rationale, map[string][]float64{
+		"Ada Invented/0": {0.02, 0.05, 0.15},
+		"Bo Example/0":   {0.03, 0.08, 0.25},
+		"Ada Invented/1": {0.5, 0.65, 0.75},
+		"Bo Example/1":   {0.6, 0.7, 0.8},
+	})
+	// An expert's browser cannot fetch it.
+	leak := eval[string](ada, "fetch the export as an expert", fmt.Sprintf(`fetch(%q).then(r => r.text())`, wsURL+"export.json"))
+	if strings.HasPrefix(strings.TrimSpace(leak), "{") {
+		t.Errorf("an expert's browser downloaded the facilitator's export")
+	}
+
+	// The printable report.
+	fac.open(wsURL + "report")
+	fac.sees("report", "Pump reliability panel (invented)", rationale, "Ada Invented", "Bo Example",
+		"After the discussion I expect fewer late failures.", "documented judgement")
+	shots.take(fac, "07-report")
+}
+
+// agreedPriors reads every agreed prior of the workshop from the file.
+func agreedPriors(t *testing.T, site *site) []elicit.AgreedPrior {
+	t.Helper()
+	ws, err := site.DB.Workshops(context.Background())
+	if err != nil || len(ws) != 1 {
+		t.Fatalf("workshops: %v, %v", ws, err)
+	}
+	ps, err := site.DB.AgreedPriors(context.Background(), ws[0].ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return ps
+}
+
+// exported is the part of the JSON export the test checks, decoded by its
+// wire names (not by elicit's own types, so a renamed field fails here).
+type exported struct {
+	Caution string `json:"caution"`
+	Experts []struct {
+		ID   int64  `json:"id"`
+		Name string `json:"name"`
+	} `json:"experts"`
+	Questions []struct {
+		ID          int64 `json:"id"`
+		CurrentFits []struct {
+			ExpertID int64 `json:"expert_id"`
+			Round    int   `json:"round"`
+			Fit      *struct {
+				Dist   exportedBeta `json:"dist"`
+				Stated []float64    `json:"stated"`
+			} `json:"fit"`
+		} `json:"current_fits"`
+		Pool *struct {
+			Mean     float64 `json:"mean"`
+			SD       float64 `json:"sd"`
+			BestBeta *struct {
+				Dist exportedBeta `json:"dist"`
+			} `json:"best_beta"`
+		} `json:"pool"`
+		AgreedPrior *struct {
+			Source    string       `json:"source"`
+			Dist      exportedBeta `json:"dist"`
+			Rationale string       `json:"rationale"`
+			Round     int          `json:"round"`
+			Snippets  []struct {
+				Code string `json:"code"`
+			} `json:"snippets"`
+		} `json:"agreed_prior"`
+	} `json:"questions"`
+	Revisions []json.RawMessage `json:"revisions"`
+}
+
+type exportedBeta struct {
+	Alpha float64 `json:"alpha"`
+	Beta  float64 `json:"beta"`
+	Lower float64 `json:"lower"`
+	Upper float64 `json:"upper"`
+}
+
+// checkExport compares the downloaded export with what elicit computes
+// from the judgements stored in the database file, and the stored
+// judgements with what the experts typed (typed["name/question index"]).
+func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed map[string][]float64) {
+	t.Helper()
+	var got exported
+	if err := json.Unmarshal(raw, &got); err != nil {
+		t.Fatalf("the JSON export does not parse: %v\n%s", err, clip(string(raw), 500))
+	}
+	ctx := context.Background()
+	ws, err := site.DB.Workshops(ctx)
+	if err != nil || len(ws) != 1 {
+		t.Fatalf("workshops: %v, %v", ws, err)
+	}
+	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	es, _ := site.DB.Experts(ctx, ws[0].ID)
+	revs, err := site.DB.Revisions(ctx, ws[0].ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(got.Revisions) != len(revs) || len(revs) != 5 {
+		t.Errorf("export has %d revisions, the file %d; the scenario saved 5", len(got.Revisions), len(revs))
+	}
+	if !strings.Contains(got.Caution, "judgement") {
+		t.Errorf("export caution: %q", got.Caution)
+	}
+	if len(got.Questions) != len(qs) || len(qs) != 2 {
+		t.Fatalf("export has %d questions, the file %d", len(got.Questions), len(qs))
+	}
+	names := map[int64]string{}
+	for _, e := range es {
+		names[e.ID] = e.Name
+	}
+	for qi, q := range qs {
+		gq := got.Questions[qi]
+		if gq.ID != q.ID {
+			t.Fatalf("export question %d has id %d, want %d", qi, gq.ID, q.ID)
+		}
+		// The current judgement is each expert's latest revision.
+		latest := map[int64]elicit.Revision{}
+		for _, r := range revs {
+			if r.QuestionID == q.ID {
+				latest[r.ExpertID] = r
+			}
+		}
+		var dists []elicit.ScaledBeta
+		for _, e := range es {
+			r, ok := latest[e.ID]
+			if !ok {
+				t.Fatalf("no stored answer of %s to question %d", e.Name, qi+1)
+			}
+			key := fmt.Sprintf("%s/%d", e.Name, qi)
+			if !floatsEqual(r.Answer.Values, typed[key]) {
+				t.Errorf("stored values of %s: %v, typed %v", key, r.Answer.Values, typed[key])
+			}
+			want, err := q.Fit(r.Answer)
+			if err != nil {
+				t.Fatalf("elicit cannot fit the stored answer of %s: %v", key, err)
+			}
+			dists = append(dists, want.Dist)
+			found := false
+			for _, cf := range gq.CurrentFits {
+				if cf.ExpertID != e.ID {
+					continue
+				}
+				found = true
+				if cf.Fit == nil {
+					t.Errorf("export: no fit for %s", key)
+					continue
+				}
+				near(t, key+" alpha", cf.Fit.Dist.Alpha, want.Dist.Alpha)
+				near(t, key+" beta", cf.Fit.Dist.Beta, want.Dist.Beta.Beta)
+				if !floatsEqual(cf.Fit.Stated, typed[key]) {
+					t.Errorf("export: stated values of %s: %v, typed %v", key, cf.Fit.Stated, typed[key])
+				}
+			}
+			if !found {
+				t.Errorf("export: no current fit for %s", key)
+			}
+		}
+		// Equal weights: nobody set any in the scenario.
+		pool, err := elicit.LinearPool(dists, nil)
+		if err != nil {
+			t.Fatalf("question %d: pool: %v", qi+1, err)
+		}
+		if gq.Pool == nil {
+			t.Fatalf("export: no pool for question %d", qi+1)
+		}
+		near(t, fmt.Sprintf("Q%d pool mean", qi+1), gq.Pool.Mean, pool.Mean())
+		near(t, fmt.Sprintf("Q%d pool sd", qi+1), gq.Pool.SD, pool.SD())
+		// The pool mean of a linear pool is the weighted mean of the
+		// components' means (definition of a mixture; common practice).
+		mixMean := (dists[0].Mean() + dists[1].Mean()) / 2
+		near(t, fmt.Sprintf("Q%d pool mean as the mean of the means", qi+1), gq.Pool.Mean, mixMean)
+		if qi != 0 {
+			if gq.AgreedPrior != nil {
+				t.Errorf("export: question 2 has an agreed prior the scenario never recorded")
+			}
+			continue
+		}
+		rep, err := pool.BestBeta()
+		if err != nil {
+			t.Fatalf("best single Beta of the pool: %v", err)
+		}
+		ap := gq.AgreedPrior
+		if ap == nil {
+			t.Fatalf("export: no agreed prior for question 1")
+		}
+		if ap.Source != string(elicit.PriorFromPool) || ap.Rationale != rationale || ap.Round != 2 {
+			t.Errorf("export agreed prior: source %q, round %d, rationale %q", ap.Source, ap.Round, ap.Rationale)
+		}
+		near(t, "agreed alpha", ap.Dist.Alpha, rep.Dist.Alpha)
+		near(t, "agreed beta", ap.Dist.Beta, rep.Dist.Beta.Beta)
+		if ap.Dist.Lower != 0 || ap.Dist.Upper != 1 {
+			t.Errorf("agreed prior bounds [%v, %v], want [0, 1]", ap.Dist.Lower, ap.Dist.Upper)
+		}
+		if len(ap.Snippets) == 0 || !strings.Contains(ap.Snippets[0].Code, "beta(") {
+			t.Errorf("export: agreed prior snippets %+v", ap.Snippets)
+		}
+		t.Logf("agreed prior Beta(%.4g, %.4g) from a pool of Beta(%.4g, %.4g) and Beta(%.4g, %.4g)",
+			ap.Dist.Alpha, ap.Dist.Beta, dists[0].Alpha, dists[0].Beta.Beta, dists[1].Alpha, dists[1].Beta.Beta)
+	}
+}
+
+// near compares exported numbers with elicit's to 1e-9 relative: the
+// export writes float64 through encoding/json, which round-trips exactly,
+// so anything looser would hide a different computation.
+func near(t *testing.T, what string, got, want float64) {
+	t.Helper()
+	if math.IsNaN(got) || math.Abs(got-want) > 1e-9*math.Max(1, math.Abs(want)) {
+		t.Errorf("%s: export %v, elicit %v", what, got, want)
+	}
+}
+
+func floatsEqual(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
 }
 
 // notShown fails when any phrase is visible on the page.
