@@ -72,7 +72,7 @@ func TestFacilitatorPagesRender(t *testing.T) {
 		{workshopPath(ws.ID) + "/questions/new", []string{"Add a question", "Lower bound", "Chips in bins", "calibration question"}},
 		{workshopPath(ws.ID) + "/log", []string{"Decision log", "Workshop created", "Question added", "Expert added"}},
 		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
-		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.041"}},
+		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.0413"}},
 	} {
 		res, body := h.get(tc.path)
 		if res.StatusCode != http.StatusOK {
@@ -382,7 +382,7 @@ func TestReportAndExports(t *testing.T) {
 		}
 	}
 	// Calibration true values stay out of the record until revealed.
-	if strings.Contains(body, "0.041") {
+	if strings.Contains(body, "0.0413") {
 		t.Error("report shows an unrevealed true value")
 	}
 
