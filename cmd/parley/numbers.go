@@ -1,0 +1,78 @@
+package main
+
+import (
+	"encoding/json"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/parley-elicit/parley/web"
+)
+
+// Command-line input for the scripting commands (fit, pool, update).
+// Numbers go through web's strict parser, the one rule for every number
+// Parley reads: plain decimals only, no NaN, Inf, hex or underscores.
+
+// priorCaution is shown with every fitted, pooled or updated prior in
+// text output.
+const priorCaution = "Caution: an elicited prior is documented judgement, not data. Review it, test how sensitive decisions are to it, and defer to your field's own guidance and regulators where harm to people, safety or the environment is at stake."
+
+// parseArgs parses the flags of a scripting command. Flag errors become
+// one line on stderr and exit status 2; -h prints the flags to stdout.
+// It returns ok false with the exit status when the command must stop.
+func parseArgs(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code int, ok bool) {
+	fs.SetOutput(io.Discard)
+	err := fs.Parse(args)
+	if errors.Is(err, flag.ErrHelp) {
+		fs.SetOutput(stdout)
+		fs.PrintDefaults()
+		return exitOK, false
+	}
+	if err != nil {
+		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), fmt.Errorf("%w: %v", errBadInput, err)), false
+	}
+	if fs.NArg() > 0 {
+		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), badInput(fs.Arg(0), "unexpected argument (every input is a --flag)")), false
+	}
+	return exitOK, true
+}
+
+// checkFormat accepts the output formats text and json.
+func checkFormat(format string) error {
+	if format != "text" && format != "json" {
+		return badInput("format", "must be text or json, got %q", format)
+	}
+	return nil
+}
+
+// number parses the value of flag --field.
+func number(field, raw string) (float64, error) { return web.ParseNumber(field, raw) }
+
+// numbers parses a comma-separated list given to flag --field.
+func numbers(field, raw string) ([]float64, error) { return web.ParseNumberList(field, raw) }
+
+// count parses a whole number in [0, max] given to flag --field.
+func count(field, raw string, max int) (int, error) {
+	return web.ParseWholeNumber(field, raw, 0, max)
+}
+
+// writeJSON prints v as one indented JSON object.
+func writeJSON(w io.Writer, v any) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(v)
+}
+
+// finite reports whether every value is a finite number, the last check
+// before printing so that no NaN reaches the output.
+func finite(vs ...float64) bool {
+	for _, v := range vs {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return false
+		}
+	}
+	return true
+}

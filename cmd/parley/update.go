@@ -1,0 +1,148 @@
+package main
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("update", "update a Beta prior with binomial data (--alpha, --beta, --successes, --trials, [--level], --format)", runUpdate)
+}
+
+// maxTrials bounds --trials and --successes (twelve digits, the limit of
+// the shared whole-number parser) so counts stay exact in a
+// float64 and the output stays meaningful.
+const maxTrials = 999_999_999_999
+
+// updateOutput is the JSON of `parley update`; its keys are a public
+// contract.
+type updateOutput struct {
+	Prior     elicit.Beta `json:"prior"`
+	Successes int         `json:"successes"`
+	Trials    int         `json:"trials"`
+	Level     float64     `json:"level"`
+	Alpha     float64     `json:"alpha"` // posterior
+	Beta      float64     `json:"beta"`  // posterior
+	Mean      float64     `json:"mean"`
+	SD        float64     `json:"sd"`
+	Interval  [2]float64  `json:"interval"` // equal-tailed credible interval
+	HDI       [2]float64  `json:"hdi"`      // highest-density interval
+	// Conflict is the prior predictive check of the observed count; it is
+	// null, with a warning, when trials exceed elicit.MaxPredictiveTrials.
+	Conflict *elicit.Conflict `json:"prior_data_conflict"`
+	Warnings []string         `json:"warnings"`
+}
+
+func runUpdate(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("update", stderr)
+	alphaArg := fs.String("alpha", "", "prior alpha (> 0)")
+	betaArg := fs.String("beta", "", "prior beta (> 0)")
+	sArg := fs.String("successes", "", "observed successes (whole number, at most trials)")
+	nArg := fs.String("trials", "", "observed trials (whole number)")
+	levelArg := fs.String("level", "0.95", "credible level of the intervals, strictly between 0 and 1")
+	format := fs.String("format", "text", "output: text or json")
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
+	}
+	out, err := updateCommand(*alphaArg, *betaArg, *sArg, *nArg, *levelArg, *format)
+	if err != nil {
+		return fail(stderr, "update", err)
+	}
+	if *format == "json" {
+		err = writeJSON(stdout, out)
+	} else {
+		err = writeUpdateText(stdout, out)
+	}
+	if err != nil {
+		return fail(stderr, "update", err)
+	}
+	return exitOK
+}
+
+func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (updateOutput, error) {
+	if err := checkFormat(format); err != nil {
+		return updateOutput{}, err
+	}
+	a, err := number("alpha", alphaArg)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	b, err := number("beta", betaArg)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	s, err := count("successes", sArg, maxTrials)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	n, err := count("trials", nArg, maxTrials)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	level, err := number("level", levelArg)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	prior := elicit.Beta{Alpha: a, Beta: b}
+	post, err := elicit.Posterior(prior, s, n)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	lo, hi, err := elicit.EqualTailed(post, level)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	hlo, hhi, err := elicit.HDI(post, level)
+	if err != nil {
+		return updateOutput{}, err
+	}
+	out := updateOutput{
+		Prior: prior, Successes: s, Trials: n, Level: level,
+		Alpha: post.Alpha, Beta: post.Beta, Mean: post.Mean(), SD: post.SD(),
+		Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi},
+		Warnings: []string{},
+	}
+	if n <= elicit.MaxPredictiveTrials {
+		c, err := elicit.ConflictCheck(prior, s, n)
+		if err != nil {
+			return updateOutput{}, err
+		}
+		out.Conflict = &c
+	} else {
+		out.Warnings = append(out.Warnings, fmt.Sprintf("prior-data conflict not checked: more than %d trials", elicit.MaxPredictiveTrials))
+	}
+	if post.Alpha < 1 && post.Beta < 1 {
+		out.Warnings = append(out.Warnings, "the posterior is U-shaped: its highest-density region is two pieces against the bounds; hdi is the shorter single interval with that probability")
+	}
+	nums := []float64{out.Alpha, out.Beta, out.Mean, out.SD, lo, hi, hlo, hhi}
+	if out.Conflict != nil {
+		nums = append(nums, out.Conflict.Lower, out.Conflict.Upper, out.Conflict.TwoSided)
+	}
+	if !finite(nums...) {
+		return updateOutput{}, errors.New("the update produced a non-finite number; nothing printed")
+	}
+	return out, nil
+}
+
+func writeUpdateText(w io.Writer, o updateOutput) error {
+	var b strings.Builder
+	pct := math.Round(o.Level*1e6) / 1e4
+	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g), data %d successes in %d trials\n", o.Prior.Alpha, o.Prior.Beta, o.Successes, o.Trials)
+	fmt.Fprintf(&b, "posterior Beta(%.6g, %.6g): mean %.6g, sd %.6g\n", o.Alpha, o.Beta, o.Mean, o.SD)
+	fmt.Fprintf(&b, "%g%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
+	fmt.Fprintf(&b, "%g%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
+	if c := o.Conflict; c != nil {
+		fmt.Fprintf(&b, "prior predictive check: %s\n", c)
+	}
+	for _, m := range o.Warnings {
+		fmt.Fprintf(&b, "warning: %s\n", m)
+	}
+	fmt.Fprintln(&b, priorCaution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
