@@ -1,0 +1,206 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"io"
+	"net/http"
+	"net/http/cookiejar"
+	"net/url"
+	"path/filepath"
+	"regexp"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/store"
+)
+
+// syncBuffer is a bytes.Buffer safe to read while serve writes to it.
+type syncBuffer struct {
+	mu sync.Mutex
+	b  bytes.Buffer
+}
+
+func (s *syncBuffer) Write(p []byte) (int, error) {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.Write(p)
+}
+
+func (s *syncBuffer) String() string {
+	s.mu.Lock()
+	defer s.mu.Unlock()
+	return s.b.String()
+}
+
+var servingAt = regexp.MustCompile(`serving at (http://[^ ]+)/\n`)
+
+// startServe runs serve on a free loopback port until the test ends and
+// returns its base URL and output.
+func startServe(t *testing.T, c serveConfig) (base string, stdout, stderr *syncBuffer, stop func() error) {
+	t.Helper()
+	stdout, stderr = &syncBuffer{}, &syncBuffer{}
+	ctx, cancel := context.WithCancel(context.Background())
+	done := make(chan error, 1)
+	go func() { done <- serve(ctx, c, stdout, stderr) }()
+	deadline := time.Now().Add(20 * time.Second)
+	for time.Now().Before(deadline) {
+		if m := servingAt.FindStringSubmatch(stdout.String()); m != nil {
+			base = m[1]
+			break
+		}
+		select {
+		case err := <-done:
+			cancel()
+			t.Fatalf("serve ended early: %v\n%s%s", err, stdout, stderr)
+		case <-time.After(20 * time.Millisecond):
+		}
+	}
+	if base == "" {
+		cancel()
+		t.Fatalf("serve did not start:\n%s%s", stdout, stderr)
+	}
+	var once sync.Once
+	var result error
+	stop = func() error {
+		once.Do(func() { cancel(); result = <-done })
+		return result
+	}
+	t.Cleanup(func() { _ = stop() })
+	return base, stdout, stderr, stop
+}
+
+var signInLine = regexp.MustCompile(`facilitator sign-in \(shown once, keep it private\): (http://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
+
+func TestServeFirstStartSignInDemoAndShutdown(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	base, out, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	text := out.String()
+	if !strings.Contains(text, "database "+dbPath) {
+		t.Errorf("the database path is not printed:\n%s", text)
+	}
+	m := signInLine.FindStringSubmatch(text)
+	if m == nil || m[1] != base {
+		t.Fatalf("no one-time sign-in address:\n%s", text)
+	}
+	if !strings.Contains(text, "invented demo workshop") || strings.Count(text, "/e/") != 4 {
+		t.Errorf("demo links not printed:\n%s", text)
+	}
+
+	jar, _ := cookiejar.New(nil)
+	c := &http.Client{Jar: jar}
+	req, _ := http.NewRequest(http.MethodPost, base+"/signin", strings.NewReader(url.Values{"secret": {m[2]}}.Encode()))
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", base)
+	res, err := c.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	body, _ := io.ReadAll(res.Body)
+	res.Body.Close()
+	if res.StatusCode != http.StatusOK || !strings.Contains(string(body), "HX-40") {
+		t.Fatalf("after sign-in: %d, demo workshop listed: %v", res.StatusCode, strings.Contains(string(body), "HX-40"))
+	}
+
+	if err := stop(); err != nil {
+		t.Fatalf("graceful shutdown: %v", err)
+	}
+	if !strings.Contains(out.String(), "shutting down") {
+		t.Error("shutdown not reported")
+	}
+	if _, err := http.Get(base + "/signin"); err == nil {
+		t.Error("server still answers after shutdown")
+	}
+
+	// Second start: no new secret, no second demo.
+	_, out2, _, stop2 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	if signInLine.MatchString(out2.String()) || strings.Contains(out2.String(), "/e/") {
+		t.Errorf("second start printed a new secret or demo links:\n%s", out2)
+	}
+	if err := stop2(); err != nil {
+		t.Fatal(err)
+	}
+	db, err := store.Open(dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	ws, _ := db.Workshops(context.Background())
+	if len(ws) != 1 {
+		t.Fatalf("%d workshops after two starts, want 1", len(ws))
+	}
+}
+
+func TestServeNoDemo(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	_, out, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath, noDemo: true})
+	if strings.Contains(out.String(), "demo") {
+		t.Errorf("--no-demo printed demo links:\n%s", out)
+	}
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+	db, err := store.Open(dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	if ws, _ := db.Workshops(context.Background()); len(ws) != 0 {
+		t.Fatalf("--no-demo created %d workshops", len(ws))
+	}
+}
+
+func TestServeWarnsOffLoopback(t *testing.T) {
+	_, _, errOut, stop := startServe(t, serveConfig{addr: "0.0.0.0:0", db: filepath.Join(t.TempDir(), "p.db"), noDemo: true})
+	if !strings.Contains(errOut.String(), "WARNING") {
+		t.Errorf("no warning for a non-loopback address: %q", errOut)
+	}
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+}
+
+func TestServeFlags(t *testing.T) {
+	for _, args := range [][]string{
+		{"--tls-cert", "c.pem"},
+		{"--addr", "no-port"},
+		{"--bogus"},
+		{"extra"},
+	} {
+		var out, errOut bytes.Buffer
+		if code := runServe(args, nil, &out, &errOut); code != exitBadInput {
+			t.Errorf("serve %v: exit %d, want %d (%s)", args, code, exitBadInput, errOut.String())
+		}
+	}
+}
+
+func TestFacilitatorReset(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ctx := context.Background()
+	check(t, db.SetFacilitatorHash(ctx, []byte("old hash")))
+	db.Close()
+	var out, errOut bytes.Buffer
+	if code := runFacilitatorReset([]string{"--db", dbPath, "--addr", "192.0.2.1:9000"}, nil, &out, &errOut); code != exitOK {
+		t.Fatalf("exit %d: %s", code, errOut.String())
+	}
+	if !regexp.MustCompile(`http://192\.0\.2\.1:9000/signin#[A-Za-z0-9_-]{43}\n`).MatchString(out.String()) {
+		t.Fatalf("no sign-in address: %q", out.String())
+	}
+	db, err = store.Open(dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	if h, _ := db.FacilitatorHash(ctx); string(h) == "old hash" || len(h) == 0 {
+		t.Fatalf("hash not replaced: %q", h)
+	}
+	if code := runFacilitatorReset([]string{"--db", filepath.Join(t.TempDir(), "missing.db")}, nil, &out, &errOut); code != exitBadInput {
+		t.Fatalf("missing database: exit %d", code)
+	}
+}
