@@ -207,8 +207,11 @@ func TestFitFailsRatherThanGuess(t *testing.T) {
 func TestFitFastPath(t *testing.T) {
 	rng := rand.New(rand.NewPCG(7, 11))
 	logU := func(lo, hi float64) float64 { return math.Exp(math.Log(lo) + rng.Float64()*math.Log(hi/lo)) }
-	tried := 0
-	for k := 0; k < 250; k++ {
+	tried, total := 0, 60
+	if testing.Short() {
+		total = 25
+	}
+	for k := 0; k < total; k++ {
 		d := Beta{logU(0.2, 5000), logU(0.2, 5000)}
 		n := 3 + rng.IntN(3)
 		ps := make([]float64, n)
@@ -238,7 +241,7 @@ func TestFitFastPath(t *testing.T) {
 		}
 		checkFitReport(t, "random", j, f)
 	}
-	if tried < 200 {
+	if tried < total*4/5 {
 		t.Errorf("only %d random judgements fitted", tried)
 	}
 }
@@ -249,7 +252,11 @@ func TestFitFastPath(t *testing.T) {
 // otherwise it must refuse with ErrFitFailed.
 func TestFitTwoPairsSearch(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 3))
-	for k := 0; k < 150; k++ {
+	total := 60
+	if testing.Short() {
+		total = 15
+	}
+	for k := 0; k < total; k++ {
 		ps := []float64{0.01 + 0.98*rng.Float64(), 0.01 + 0.98*rng.Float64()}
 		us := make([]float64, 2)
 		for i := range us {
@@ -319,17 +326,17 @@ func TestFitJSON(t *testing.T) {
 }
 
 // exhaustiveFit is the smallest objective found by local fits from every
-// point of a fine grid: means at 1e-4, 0.01, 0.05, 0.1, ..., 0.95, 0.99,
-// 1−1e-4 and at the stated points, α+β from 1e-3 to 1e7.
+// point of a grid: means at 1e-4, 0.01, 0.05, 0.2, ..., 0.95, 0.99,
+// 1−1e-4 and at the stated points, α+β from 1e-3 to 1e7 (factors of 10).
 func exhaustiveFit(j Judgement) float64 {
 	u := j.unit()
 	q := &lsq{u: u, p: j.Probs, r: make([]float64, len(u)), rh: make([]float64, len(u))}
 	means := append([]float64{1e-4, 0.01, 0.99, 1 - 1e-4}, u...)
-	for m := 0.05; m < 0.96; m += 0.075 {
+	for m := 0.05; m < 0.96; m += 0.15 {
 		means = append(means, m)
 	}
 	best := math.Inf(1)
-	for e := -3.0; e <= 7; e += 0.5 {
+	for e := -3.0; e <= 7; e++ {
 		for _, m := range means {
 			th := clampBox(logShape(m, math.Pow(10, e)))
 			if _, f := q.fitFrom(th); f < best {
