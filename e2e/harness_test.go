@@ -14,6 +14,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 
@@ -186,7 +188,37 @@ func (p *person) load(what string, step chromedp.Action[chromedp.Void]) int64 {
 	if resp == nil {
 		p.t.Fatalf("%s: %s: no page loaded", p.name, what)
 	}
+	p.noBrokenNumbers(what)
 	return resp.Status
+}
+
+// brokenOnScreen matches what must never reach a person: numbers that
+// are not numbers, and Go's panic output.
+var brokenOnScreen = regexp.MustCompile(`\bNaN\b|[+-]?Inf\b|goroutine \d+ \[|panic:|runtime error`)
+
+// noBrokenNumbers fails when the page shows NaN, an infinity or a stack
+// trace.
+func (p *person) noBrokenNumbers(after string) {
+	p.t.Helper()
+	if m := brokenOnScreen.FindString(p.text()); m != "" {
+		p.t.Errorf("%s: after %s the page shows %q", p.name, after, m)
+	}
+}
+
+// media switches the tab's CSS media type ("print", or "" for screen).
+func (p *person) media(kind string) {
+	p.t.Helper()
+	p.do("emulate "+kind+" media", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, emulation.SetEmulatedMedia, emulation.SetEmulatedMediaParams{Media: kind})
+		return err
+	}))
+}
+
+// visible reports whether the first element matching css is rendered.
+func (p *person) visible(css string) bool {
+	p.t.Helper()
+	return eval[bool](p, "is "+css+" visible", fmt.Sprintf(
+		`(() => { const e = document.querySelector(%q); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility !== "hidden"; })()`, css))
 }
 
 // open navigates to url and returns the status.

@@ -70,6 +70,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	}
 	typeValues(ada, "0.02", "0.05", "0.12")
 	first := livePreview(t, ada, 3, nil)
+	risingLeftToRight(t, ada, first)
 	ada.sees("fit preview", "What your numbers imply", "1 in 20 chance the value is below 0.02", "above 0.12")
 	ada.fill(`form.answer-form`, "values[2]", "0.2")
 	second := livePreview(t, ada, 3, first)
@@ -124,9 +125,19 @@ func TestWorkshopInBrowser(t *testing.T) {
 	typeValues(bo, "0.03", "0.08", "0.25")
 	livePreview(t, bo, 3, nil)
 	saveAnswer(t, bo)
+	// Question 2 by keyboard alone: Tab from field to field, Enter shows
+	// the fit.
 	openQuestion(t, bo, linkB, 2)
-	typeValues(bo, "0.6", "0.7", "0.8")
-	livePreview(t, bo, 3, nil)
+	bo.do("focus the first value", chromedp.Focus(chromedp.CSS(`[name="values[0]"]`)))
+	bo.do("type by keyboard", chromedp.KeyEvent("0.6\t"), chromedp.KeyEvent("0.7\t"), chromedp.KeyEvent("0.8"))
+	if v := bo.value(`[name="values[2]"]`); v != "0.8" {
+		t.Errorf("Bo: Tab did not lead from the first value to the third: the 75%% field holds %q", v)
+	}
+	bo.load("press Enter", chromedp.KeyEvent("\r"))
+	bo.waitFor("the fit after Enter", fmt.Sprintf(`document.querySelectorAll(%q).length === 3`, previewCircles))
+	if n := revisionsOf(t, site, bo.name, 1); n != 0 {
+		t.Errorf("Enter in the form saved the answer (%d revisions); it should only show the fit", n)
+	}
 	saveAnswer(t, bo)
 
 	// Phone width: the expert's page fits a 390-pixel screen.
@@ -219,6 +230,14 @@ func TestWorkshopInBrowser(t *testing.T) {
 	fac.sees("report", "Pump reliability panel (invented)", rationale, "Ada Invented", "Bo Example",
 		"After the discussion I expect fewer late failures.", "documented judgement")
 	shots.take(fac, "07-report")
+	fac.media("print")
+	if fac.visible(`form`) || fac.visible(`nav`) {
+		t.Errorf("the printed report still shows the navigation or a form")
+	}
+	if !fac.visible(`svg`) {
+		t.Errorf("the printed report has no picture")
+	}
+	fac.media("")
 }
 
 // agreedPriors reads every agreed prior of the workshop from the file.
@@ -424,6 +443,19 @@ func floatsEqual(a, b []float64) bool {
 		}
 	}
 	return true
+}
+
+// risingLeftToRight checks that the stated points of increasing
+// probabilities are drawn left to right and, on the CDF, bottom to top
+// (SVG y grows downwards).
+func risingLeftToRight(t *testing.T, p *person, pts []point) {
+	t.Helper()
+	for i := 1; i < len(pts); i++ {
+		if !(pts[i].X > pts[i-1].X && pts[i].Y < pts[i-1].Y) {
+			t.Errorf("%s: stated points are not drawn rising left to right: %v", p.name, pts)
+			return
+		}
+	}
 }
 
 // notShown fails when any phrase is visible on the page.
