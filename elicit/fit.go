@@ -456,7 +456,9 @@ func (q *lsq) polishRoot(th [2]float64) [2]float64 {
 // α/β ≈ e^μ and 1/α + 1/β ≈ σ² (the large-α, β forms of the mean and
 // variance of logit Y: ψ(α) − ψ(β) and ψ′(α) + ψ′(β); Johnson, Kotz &
 // Balakrishnan 1995, ch. 25). Both lines are least-squares lines through
-// the pairs with pᵢ strictly inside (0, 1).
+// the pairs with pᵢ strictly inside (0, 1). For the default 5/50/95
+// judgement a third start takes the mean and variance from the extended
+// Pearson–Tukey approximation, then the method of moments.
 func (q *lsq) momentStart() [2]float64 {
 	var zs, us, ls []float64
 	for i, p := range q.p {
@@ -479,6 +481,9 @@ func (q *lsq) momentStart() [2]float64 {
 		m := 1 / (1 + math.Exp(-mu))
 		cands = append(cands, logShape(m, 1/(sg*sg*m*(1-m))))
 	}
+	if m, v, ok := q.pearsonTukey(); ok && v < m*(1-m) {
+		cands = append(cands, logShape(m, m*(1-m)/v-1))
+	}
 	if len(cands) == 0 {
 		cands = append(cands, logShape(q.medianGuess(), 2))
 	}
@@ -490,6 +495,25 @@ func (q *lsq) momentStart() [2]float64 {
 		}
 	}
 	return best
+}
+
+// pearsonTukey is the extended Pearson–Tukey approximation of the mean
+// and variance from the 5th, 50th and 95th percentiles, a three-point
+// distribution with weights 0.185, 0.63, 0.185 (Keefer & Bodily 1983,
+// "Three-point approximations for continuous random variables",
+// Management Science 29(5)); ok is false unless the probabilities are
+// exactly 0.05, 0.5, 0.95.
+func (q *lsq) pearsonTukey() (m, v float64, ok bool) {
+	if len(q.p) != 3 || q.p[0] != 0.05 || q.p[1] != 0.5 || q.p[2] != 0.95 {
+		return 0, 0, false
+	}
+	w := [3]float64{0.185, 0.63, 0.185}
+	var s2 float64
+	for i, x := range q.u {
+		m += w[i] * x
+		s2 += w[i] * x * x
+	}
+	return m, s2 - m*m, m > 0 && m < 1 && s2-m*m > 0
 }
 
 // medianGuess interpolates the cumulative points (0,0), (uᵢ,pᵢ), (1,1)
