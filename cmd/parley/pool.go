@@ -1,0 +1,276 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("pool", `combine experts' Betas read as JSON on stdin ({"experts":[{"alpha","beta","weight"}],"probs","method":"linear"|"log"}; --format)`, runPool)
+}
+
+// Rules of the JSON read by `parley pool`, beside elicit's own.
+const (
+	ruleJSONSyntax elicit.Rule = "must be one valid JSON object"
+	ruleJSONType   elicit.Rule = "has the wrong JSON type"
+	ruleJSONField  elicit.Rule = "is not a field of this input"
+	ruleAllOrNone  elicit.Rule = "give a weight for every expert or for none"
+)
+
+// Limits of the pool input.
+const (
+	maxPoolInput   = 1 << 20 // bytes on stdin
+	maxPoolExperts = 1000
+	maxPoolProbs   = 999
+)
+
+// poolInput is the JSON read by `parley pool`; its keys are a public
+// contract. Pointers tell a missing number from 0.
+type poolInput struct {
+	Experts []poolExpert `json:"experts"`
+	Probs   []float64    `json:"probs"`  // default 0.05, 0.5, 0.95
+	Method  string       `json:"method"` // "linear" (default) or "log"
+	Lower   *float64     `json:"lower"`  // default 0
+	Upper   *float64     `json:"upper"`  // default 1
+}
+
+type poolExpert struct {
+	Alpha  *float64 `json:"alpha"`
+	Beta   *float64 `json:"beta"`
+	Weight *float64 `json:"weight"` // optional: all or none; none means equal
+}
+
+// poolOutput is the JSON printed by `parley pool`; its keys are a public
+// contract.
+type poolOutput struct {
+	Method    string      `json:"method"`
+	Experts   int         `json:"experts"`
+	Lower     float64     `json:"lower"`
+	Upper     float64     `json:"upper"`
+	Mean      float64     `json:"mean"`
+	SD        float64     `json:"sd"`
+	Probs     []float64   `json:"probs"`
+	Quantiles []float64   `json:"quantiles"`
+	Beta      elicit.Beta `json:"beta"`
+	// BetaExact is true for the log pool, whose result is itself a Beta;
+	// for the linear pool beta is the least-squares representation and
+	// BetaFit says how far it is from the pool.
+	BetaExact bool     `json:"beta_exact"`
+	BetaFit   *betaFit `json:"beta_fit"`
+}
+
+type betaFit struct {
+	SSE           float64     `json:"sse"`
+	MaxCDFError   float64     `json:"max_cdf_error"`
+	QuantileDiffs percentiles `json:"quantile_diffs"` // Beta's minus pool's quantiles
+}
+
+func runPool(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("pool", stderr)
+	format := fs.String("format", "text", "output: text or json")
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
+	}
+	if err := checkFormat(*format); err != nil {
+		return fail(stderr, "pool", err)
+	}
+	in, err := readPoolInput(stdin)
+	if err != nil {
+		return fail(stderr, "pool", err)
+	}
+	out, err := poolCommand(in)
+	if err != nil {
+		return fail(stderr, "pool", err)
+	}
+	if *format == "json" {
+		err = writeJSON(stdout, out)
+	} else {
+		err = writePoolText(stdout, out)
+	}
+	if err != nil {
+		return fail(stderr, "pool", err)
+	}
+	return exitOK
+}
+
+// readPoolInput decodes exactly one JSON object with only known fields.
+func readPoolInput(r io.Reader) (poolInput, error) {
+	data, err := io.ReadAll(io.LimitReader(r, maxPoolInput+1))
+	if err != nil {
+		return poolInput{}, err
+	}
+	if len(data) > maxPoolInput {
+		return poolInput{}, &elicit.InputError{Field: "stdin", Rule: elicit.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes", maxPoolInput)}
+	}
+	dec := json.NewDecoder(bytes.NewReader(data))
+	dec.DisallowUnknownFields()
+	var in poolInput
+	if err := dec.Decode(&in); err != nil {
+		return poolInput{}, jsonInputError(err)
+	}
+	if dec.More() {
+		return poolInput{}, &elicit.InputError{Field: "stdin", Rule: ruleJSONSyntax, Detail: "more data after the object"}
+	}
+	return in, nil
+}
+
+// jsonInputError turns a decoding error into an *elicit.InputError
+// naming the field where it can.
+func jsonInputError(err error) error {
+	var syn *json.SyntaxError
+	var typ *json.UnmarshalTypeError
+	switch {
+	case errors.As(err, &syn):
+		return &elicit.InputError{Field: "stdin", Rule: ruleJSONSyntax, Detail: fmt.Sprintf("%v at byte %d", syn, syn.Offset)}
+	case errors.As(err, &typ):
+		field := typ.Field
+		if field == "" {
+			field = "stdin"
+		}
+		return &elicit.InputError{Field: field, Rule: ruleJSONType, Detail: fmt.Sprintf("got %s, want %s", typ.Value, typ.Type)}
+	case errors.Is(err, io.EOF), errors.Is(err, io.ErrUnexpectedEOF):
+		return &elicit.InputError{Field: "stdin", Rule: ruleJSONSyntax, Detail: "empty or cut short"}
+	}
+	// encoding/json reports unknown fields only as text: json: unknown field "name".
+	if name, ok := strings.CutPrefix(err.Error(), "json: unknown field "); ok {
+		return &elicit.InputError{Field: strings.Trim(name, `"`), Rule: ruleJSONField}
+	}
+	return &elicit.InputError{Field: "stdin", Rule: ruleJSONSyntax, Detail: err.Error()}
+}
+
+func poolCommand(in poolInput) (poolOutput, error) {
+	out, err := poolResult(in)
+	return out, inputFields(err)
+}
+
+// inputFields renames the fields of elicit's pool errors to the keys of
+// the JSON input: weights[i] is experts[i].weight, and the shared bounds
+// are the top-level lower and upper.
+func inputFields(err error) error {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	c := *ie
+	switch {
+	case strings.HasPrefix(c.Field, "weights["):
+		c.Field = "experts" + strings.TrimPrefix(c.Field, "weights") + ".weight"
+	case c.Field == "weights":
+		c.Field = "experts[].weight"
+	case strings.HasSuffix(c.Field, ".lower"):
+		c.Field = "lower"
+	case strings.HasSuffix(c.Field, ".upper"):
+		c.Field = "upper"
+	}
+	return &c
+}
+
+func poolResult(in poolInput) (poolOutput, error) {
+	lower, upper := 0.0, 1.0
+	if in.Lower != nil {
+		lower = *in.Lower
+	}
+	if in.Upper != nil {
+		upper = *in.Upper
+	}
+	if len(in.Experts) > maxPoolExperts {
+		return poolOutput{}, &elicit.InputError{Field: "experts", Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d, got %d", maxPoolExperts, len(in.Experts))}
+	}
+	probs := in.Probs
+	if probs == nil {
+		probs = []float64{0.05, 0.5, 0.95}
+	}
+	if len(probs) > maxPoolProbs {
+		return poolOutput{}, &elicit.InputError{Field: "probs", Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d, got %d", maxPoolProbs, len(probs))}
+	}
+	if err := elicit.CheckProbs("probs", probs); err != nil {
+		return poolOutput{}, err
+	}
+	dists, weights, err := poolExperts(in.Experts, lower, upper)
+	if err != nil {
+		return poolOutput{}, err
+	}
+	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs}
+	switch in.Method {
+	case "", "linear":
+		out.Method = "linear"
+		p, err := elicit.LinearPool(dists, weights)
+		if err != nil {
+			return poolOutput{}, err
+		}
+		if out.Quantiles, err = p.Quantiles(probs); err != nil {
+			return poolOutput{}, err
+		}
+		r, err := p.BestBeta()
+		if err != nil {
+			return poolOutput{}, err
+		}
+		out.Mean, out.SD, out.Beta = p.Mean(), p.SD(), r.Dist.Beta
+		out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]}}
+	case "log":
+		out.Method = "log"
+		d, err := elicit.LogPool(dists, weights)
+		if err != nil {
+			return poolOutput{}, err
+		}
+		out.Quantiles = make([]float64, len(probs))
+		for i, pr := range probs {
+			out.Quantiles[i] = d.Quantile(pr)
+		}
+		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), d.Beta, true
+	default:
+		return poolOutput{}, &elicit.InputError{Field: "method", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("got %q, want \"linear\" or \"log\"", in.Method)}
+	}
+	nums := append([]float64{out.Mean, out.SD, out.Beta.Alpha, out.Beta.Beta}, out.Quantiles...)
+	if !finite(nums...) {
+		return poolOutput{}, errors.New("the pool produced a non-finite number; nothing printed")
+	}
+	return out, nil
+}
+
+// poolExperts turns the experts of the input into elicit's types; a
+// missing alpha or beta is an error, and weights are given for all or
+// none (nil weights: equal).
+func poolExperts(experts []poolExpert, lower, upper float64) ([]elicit.ScaledBeta, []float64, error) {
+	dists := make([]elicit.ScaledBeta, len(experts))
+	var weights []float64
+	for i, e := range experts {
+		if e.Alpha == nil {
+			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("experts[%d].alpha", i), Rule: elicit.RuleRequired}
+		}
+		if e.Beta == nil {
+			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("experts[%d].beta", i), Rule: elicit.RuleRequired}
+		}
+		if (e.Weight == nil) != (experts[0].Weight == nil) {
+			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("experts[%d].weight", i), Rule: ruleAllOrNone}
+		}
+		dists[i] = elicit.ScaledBeta{Beta: elicit.Beta{Alpha: *e.Alpha, Beta: *e.Beta}, Lower: lower, Upper: upper}
+		if e.Weight != nil {
+			weights = append(weights, *e.Weight)
+		}
+	}
+	return dists, weights, nil
+}
+
+func writePoolText(w io.Writer, o poolOutput) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %.6g, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, o.Mean, o.SD)
+	for i, p := range o.Probs {
+		fmt.Fprintf(&b, "  quantile %-8g %.6g\n", p, o.Quantiles[i])
+	}
+	if o.BetaExact {
+		fmt.Fprintf(&b, "the pool is exactly Beta(%.6g, %.6g)\n", o.Beta.Alpha, o.Beta.Beta)
+	} else if f := o.BetaFit; f != nil {
+		fmt.Fprintf(&b, "best single Beta(%.6g, %.6g): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%\n",
+			o.Beta.Alpha, o.Beta.Beta, f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95)
+	}
+	fmt.Fprintln(&b, priorCaution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}
