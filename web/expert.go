@@ -202,25 +202,6 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 	return f
 }
 
-// setError puts a message beside the field it names, or on the form when
-// no field of the form has that name.
-func (f *answerForm) setError(field, msg string) {
-	for i := range f.Fields {
-		if f.Fields[i].Name == field {
-			f.Fields[i].Error = msg
-			return
-		}
-	}
-	// "values" or "counts" as a whole: show on the first of them.
-	for i := range f.Fields {
-		if strings.HasPrefix(f.Fields[i].Name, field+"[") {
-			f.Fields[i].Error = msg
-			return
-		}
-	}
-	f.Error = msg
-}
-
 // answerValues writes a saved answer back as form values, for pre-filling.
 func answerValues(q elicit.Question, a elicit.Answer) map[string]string {
 	m := map[string]string{}
