@@ -38,7 +38,7 @@ print("kind,alpha,beta,n,x,value,components")
 
 # Beta-binomial prior predictive.
 for a, b, n in [(1.0, 1.0, 10), (2.0, 8.0, 20), (0.5, 0.5, 15), (3.4, 61.2, 50),
-                (0.2, 30.0, 200), (40.0, 12.0, 1000)]:
+                (0.2, 30.0, 200), (40.0, 12.0, 1000), (2.0, 38.0, 50)]:
     d = stats.betabinom(n, a, b)
     ks = range(n + 1) if n <= 50 else sorted({0, 1, 2, n // 10, n // 2, n - 1, n})
     for k in ks:
@@ -48,7 +48,7 @@ for a, b, n in [(1.0, 1.0, 10), (2.0, 8.0, 20), (0.5, 0.5, 15), (3.4, 61.2, 50),
 
 # Equal-tailed and highest-density intervals.
 for a, b in [(2.0, 8.0), (5.0, 5.0), (1.5, 40.0), (30.0, 4.0), (3.4, 61.2),
-             (120.0, 880.0), (1.05, 3.0), (12.5, 12.5)]:
+             (120.0, 880.0), (1.05, 3.0), (12.5, 12.5), (5.0, 85.0)]:
     d = stats.beta(a, b)
     for level in [0.5, 0.9, 0.95, 0.99]:
         row("eqt_lo", a, b, 0, level, d.ppf((1 - level) / 2))
