@@ -69,7 +69,7 @@ var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
 // the usual choice in the elicitation literature (O'Hagan et al. 2006,
 // "Uncertain Judgements", §6.4). The search runs over (log α, log β) with
 // gonum/optimize from a moment-based start; unless that fit misses no
-// probability by more than 0.02, two further starts at the same mean with
+// probability by more than 0.035 (closeFit), two further starts at the same mean with
 // α+β 30 times larger and smaller; and unless the best fit then misses by
 // no more than PoorFitThreshold, a deterministic grid of starts over α+β
 // and the mean. A
@@ -174,7 +174,7 @@ const (
 	// moment-based start is accepted without trying further starts. Up to
 	// PoorFitThreshold two more starts are tried, at the same mean with
 	// α+β 30 times larger and smaller; beyond it, the whole grid.
-	closeFit = 0.02
+	closeFit = 0.035
 	// gridRestarts is how many grid points are used as further starts
 	// (all 15 levels of α+β: the starting objective is a poor guide to
 	// which basin holds the global minimum).
