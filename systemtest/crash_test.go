@@ -171,7 +171,8 @@ func TestCrashKeepsAcknowledgedSaves(t *testing.T) {
 	}
 	if len(lost) > 0 {
 		sort.Strings(lost)
-		t.Errorf("%d acknowledged saves are missing after %d kills, e.g. %v", len(lost), done, lost[:min(5, len(lost))])
+		t.Errorf("%d acknowledged saves are missing after %d kills, e.g. %v\nlast server output:\n%s",
+			len(lost), done, lost[:min(5, len(lost))], c.out.tail(1500))
 	}
 
 	var inflightKills int

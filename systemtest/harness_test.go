@@ -50,7 +50,13 @@ func TestMain(m *testing.M) {
 func parleyBinary(t testing.TB) string {
 	t.Helper()
 	buildOnce.Do(func() {
-		root, err := filepath.Abs("..")
+		// PARLEY_SYSTEMTEST_SRC builds the binary from another copy of the
+		// module, for checking that these tests fail on a broken server.
+		src := os.Getenv("PARLEY_SYSTEMTEST_SRC")
+		if src == "" {
+			src = ".."
+		}
+		root, err := filepath.Abs(src)
 		if err != nil {
 			buildErr = err
 			return
