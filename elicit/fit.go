@@ -69,12 +69,13 @@ var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
 // the usual choice in the elicitation literature (O'Hagan et al. 2006,
 // "Uncertain Judgements", §6.4). The search runs over (log α, log β) with
 // gonum/optimize from a moment-based start; unless that fit misses no
-// probability by more than 0.035 (closeFit), two further starts at the same mean with
-// α+β 30 times larger and smaller; and unless the best fit then misses by
-// no more than PoorFitThreshold, a deterministic grid of starts over α+β
-// and the mean. A
-// judgement of two pairs is matched exactly (|F(xᵢ) − pᵢ| ≤ 1e-9) by a
-// final Newton root-finding polish.
+// probability by more than 0.035 (closeFit), from two further starts at
+// the same mean with α+β 30 times larger and smaller; and unless the best
+// fit then misses by no more than PoorFitThreshold, from a deterministic
+// grid of starts over α+β and the mean. A judgement of two pairs is
+// matched exactly (|F(xᵢ) − pᵢ| ≤ 1e-10) by a final Newton root-finding
+// polish, or refused with ErrFitFailed if no Beta in the search range
+// matches it.
 func FitQuantiles(j Judgement) (Fit, error) {
 	if err := j.Validate(); err != nil {
 		return Fit{}, err
