@@ -435,9 +435,7 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 	}
 	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
 	applyErrors(&v.Form, f)
-	if ok {
-		v.Preview = p
-	}
+	v.Preview = p
 	s.renderQuestion(w, r, status, sc, v)
 }
 
@@ -456,6 +454,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
 	applyErrors(&v.Form, f)
 	if !ok || !f.OK() {
+		v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
 		s.renderQuestion(w, r, http.StatusUnprocessableEntity, sc, v)
 		return
 	}
