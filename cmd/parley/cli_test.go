@@ -1,0 +1,312 @@
+package main
+
+import (
+	"bufio"
+	"bytes"
+	"encoding/json"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// runCLI calls dispatch in-process and returns the exit status and outputs.
+func runCLI(t *testing.T, stdin string, args ...string) (int, string, string) {
+	t.Helper()
+	var out, errOut bytes.Buffer
+	code := dispatch(args, strings.NewReader(stdin), &out, &errOut)
+	return code, out.String(), errOut.String()
+}
+
+func decodeJSON(t *testing.T, s string, v any) {
+	t.Helper()
+	if err := json.Unmarshal([]byte(s), v); err != nil {
+		t.Fatalf("output is not JSON: %v\n%s", err, s)
+	}
+}
+
+// scipyValue reads one value from testdata/scipy/update_pool_reference.csv
+// (made by testdata/scipy/update_pool_reference.py with python3-scipy).
+func scipyValue(t *testing.T, kind, alpha, beta, n, x string) float64 {
+	t.Helper()
+	f, err := os.Open("../../testdata/scipy/update_pool_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	prefix := strings.Join([]string{kind, alpha, beta, n, x}, ",") + ","
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		if rest, ok := strings.CutPrefix(sc.Text(), prefix); ok {
+			v, err := strconv.ParseFloat(strings.Split(rest, ",")[0], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return v
+		}
+	}
+	t.Fatalf("no reference row %s", prefix)
+	return 0
+}
+
+func nearRel(got, want, tol float64) bool { return math.Abs(got-want) <= tol*math.Max(math.Abs(want), 1e-300) }
+
+func TestUpdateJSON(t *testing.T) {
+	// Invented case: prior Beta(2, 38), 3 successes in 50 trials.
+	code, out, errOut := runCLI(t, "", "update", "--alpha", "2", "--beta", "38", "--successes", "3", "--trials", "50", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Alpha, Beta, Mean float64
+		Interval, HDI     []float64
+		Conflict          struct {
+			Lower    float64 `json:"p_lower"`
+			Upper    float64 `json:"p_upper"`
+			TwoSided float64 `json:"p_two_sided"`
+		} `json:"prior_data_conflict"`
+	}
+	decodeJSON(t, out, &got)
+	// Conjugate update (Gelman et al., BDA3 §2.4): Beta(2+3, 38+47).
+	if got.Alpha != 5 || got.Beta != 85 || math.Abs(got.Mean-5.0/90) > 1e-15 {
+		t.Errorf("posterior Beta(%v, %v) mean %v, want Beta(5, 85) mean 5/90", got.Alpha, got.Beta, got.Mean)
+	}
+	// Against elicit itself: the command only wires.
+	post := elicit.Beta{Alpha: 5, Beta: 85}
+	lo, hi, _ := elicit.EqualTailed(post, 0.95)
+	hlo, hhi, _ := elicit.HDI(post, 0.95)
+	if got.Interval[0] != lo || got.Interval[1] != hi || got.HDI[0] != hlo || got.HDI[1] != hhi {
+		t.Errorf("intervals %v %v, elicit [%v %v] [%v %v]", got.Interval, got.HDI, lo, hi, hlo, hhi)
+	}
+	// Against SciPy (testdata/scipy): beta.ppf and the width-minimising
+	// interval by scipy.optimize; betabinom cdf and upper tail.
+	refs := []struct {
+		name      string
+		got, want float64
+		tol       float64
+	}{
+		{"interval low", got.Interval[0], scipyValue(t, "eqt_lo", "5.0", "85.0", "0", "0.95"), 1e-9},
+		{"interval high", got.Interval[1], scipyValue(t, "eqt_hi", "5.0", "85.0", "0", "0.95"), 1e-9},
+		{"hdi low", got.HDI[0], scipyValue(t, "hdi_lo", "5.0", "85.0", "0", "0.95"), 1e-7},
+		{"hdi high", got.HDI[1], scipyValue(t, "hdi_hi", "5.0", "85.0", "0", "0.95"), 1e-7},
+		{"P(Y ≤ 3)", got.Conflict.Lower, scipyValue(t, "betabinom_cdf", "2.0", "38.0", "50", "3"), 1e-9},
+		{"P(Y ≥ 3)", got.Conflict.Upper, scipyValue(t, "betabinom_upper", "2.0", "38.0", "50", "3"), 1e-9},
+	}
+	for _, r := range refs {
+		if !nearRel(r.got, r.want, r.tol) {
+			t.Errorf("%s: %.17g, scipy %.17g", r.name, r.got, r.want)
+		}
+	}
+	if want := 2 * math.Min(got.Conflict.Lower, got.Conflict.Upper); got.Conflict.TwoSided != math.Min(1, want) {
+		t.Errorf("two-sided %v, want %v", got.Conflict.TwoSided, want)
+	}
+}
+
+func TestFitJSON(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var keys map[string]json.RawMessage
+	decodeJSON(t, out, &keys)
+	for _, k := range []string{"alpha", "beta", "sse", "fitted", "max_prob_error", "warnings", "lower", "upper", "percentiles", "mean", "sd"} {
+		if _, ok := keys[k]; !ok {
+			t.Errorf("key %q missing from %s", k, out)
+		}
+	}
+	var got fitOutput
+	decodeJSON(t, out, &got)
+	want, err := elicit.FitQuantiles(elicit.Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Alpha != want.Dist.Alpha || got.Beta != want.Dist.Beta.Beta || got.SSE != want.SSE || got.MaxProbError != want.MaxProbError {
+		t.Errorf("JSON %+v, elicit %+v", got, want)
+	}
+	for i := range want.Fitted {
+		if got.Fitted[i] != want.Fitted[i] {
+			t.Errorf("fitted[%d] %v, elicit %v", i, got.Fitted[i], want.Fitted[i])
+		}
+	}
+	if got.Warnings == nil || len(got.Warnings) != len(want.Warnings) {
+		t.Errorf("warnings %v, elicit %v", got.Warnings, want.Warnings)
+	}
+	// A J-shaped judgement (invented) must carry its warning as a string.
+	_, out, _ = runCLI(t, "", "fit", "--probs", "0.5,0.9", "--values", "0.001,0.02", "--format", "json")
+	var j struct{ Warnings []string }
+	decodeJSON(t, out, &j)
+	if len(j.Warnings) == 0 || !strings.Contains(j.Warnings[0], "J-shaped") {
+		t.Errorf("J-shaped fit warnings %q", j.Warnings)
+	}
+}
+
+func TestPoolJSON(t *testing.T) {
+	in := `{"experts":[{"alpha":2,"beta":38,"weight":1},{"alpha":6,"beta":54,"weight":3}],"probs":[0.05,0.5,0.95],"method":"linear"}`
+	code, out, errOut := runCLI(t, in, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Mean, SD  float64
+		Quantiles []float64
+		Beta      map[string]float64
+	}
+	decodeJSON(t, out, &got)
+	ds := []elicit.ScaledBeta{elicit.Unit(elicit.Beta{Alpha: 2, Beta: 38}), elicit.Unit(elicit.Beta{Alpha: 6, Beta: 54})}
+	p, err := elicit.LinearPool(ds, []float64{1, 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	qs, _ := p.Quantiles([]float64{0.05, 0.5, 0.95})
+	for i := range qs {
+		if got.Quantiles[i] != qs[i] {
+			t.Errorf("quantile %d: %v, elicit %v", i, got.Quantiles[i], qs[i])
+		}
+	}
+	// Mixture mean by hand: 0.25·2/40 + 0.75·6/60 = 0.0875.
+	if math.Abs(got.Mean-0.0875) > 1e-15 || got.SD != p.SD() {
+		t.Errorf("mean %v sd %v", got.Mean, got.SD)
+	}
+	r, _ := p.BestBeta()
+	if got.Beta["alpha"] != r.Dist.Alpha || got.Beta["beta"] != r.Dist.Beta.Beta {
+		t.Errorf("beta %v, elicit %v", got.Beta, r.Dist.Beta)
+	}
+
+	// Log pool (Genest & Zidek 1986): α = 0.25·2 + 0.75·6 = 5,
+	// β = 0.25·38 + 0.75·54 = 50, worked by hand.
+	in = strings.Replace(in, `"linear"`, `"log"`, 1)
+	code, out, errOut = runCLI(t, in, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	decodeJSON(t, out, &got)
+	if math.Abs(got.Beta["alpha"]-5) > 1e-14 || math.Abs(got.Beta["beta"]-50) > 1e-14 || math.Abs(got.Mean-5.0/55) > 1e-15 {
+		t.Errorf("log pool beta %v mean %v", got.Beta, got.Mean)
+	}
+}
+
+func TestScriptingBadInput(t *testing.T) {
+	// Each bad input: exit 2, nothing on stdout, one line on stderr that
+	// names the field and the rule.
+	good := []string{"--alpha", "2", "--beta", "38", "--successes", "3", "--trials", "50"}
+	with := func(args []string, flag, value string) []string {
+		out := append([]string{"update"}, args...)
+		for i := range out {
+			if out[i] == flag {
+				out[i+1] = value
+			}
+		}
+		return out
+	}
+	tests := []struct {
+		name  string
+		args  []string
+		stdin string
+		want  []string // fragments of the message
+	}{
+		{"successes above trials", with(good, "--successes", "60"), "", []string{"successes", string(elicit.RuleCountRange)}},
+		{"negative trials", with(good, "--trials", "-5"), "", []string{"trials", string(elicit.RuleInteger)}},
+		{"hex alpha", with(good, "--alpha", "0x1p-2"), "", []string{"alpha", "plain decimal"}},
+		{"underscore beta", with(good, "--beta", "3_8"), "", []string{"beta", "plain decimal"}},
+		{"NaN alpha", with(good, "--alpha", "NaN"), "", []string{"alpha", "plain decimal"}},
+		{"overflow alpha", with(good, "--alpha", "1e999"), "", []string{"alpha", string(elicit.RuleFinite)}},
+		{"zero alpha", with(good, "--alpha", "0"), "", []string{"alpha", string(elicit.RulePositive)}},
+		{"level 1", append(append([]string{"update"}, good...), "--level", "1"), "", []string{"level", string(elicit.RuleProbOpen)}},
+		{"bad format", append(append([]string{"update"}, good...), "--format", "xml"), "", []string{"format", "text or json"}},
+		{"unknown flag", []string{"update", "--alpah", "2"}, "", []string{"alpah"}},
+		{"stray argument", []string{"fit", "extra"}, "", []string{"extra", "unexpected argument"}},
+		{"fit probs decreasing", []string{"fit", "--probs", "0.5,0.25", "--values", "0.1,0.2"}, "", []string{"probs[1]", string(elicit.RuleProbIncreasing)}},
+		{"fit values outside", []string{"fit", "--probs", "0.25,0.5", "--values", "0.1,1.2"}, "", []string{"values[1]", string(elicit.RuleValueInBounds)}},
+		{"fit lengths", []string{"fit", "--probs", "0.25,0.5", "--values", "0.1"}, "", []string{"values", string(elicit.RuleLengthMatch)}},
+		{"fit missing probs", []string{"fit", "--values", "0.1,0.2"}, "", []string{"probs", string(elicit.RuleRequired)}},
+		{"fit bounds", []string{"fit", "--probs", "0.25,0.5", "--values", "3,4", "--lower", "5", "--upper", "2"}, "", []string{"lower", string(elicit.RuleBoundsOrder)}},
+		{"pool unknown field", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"prob":[0.5]}`, []string{"prob", string(ruleJSONField)}},
+		{"pool unknown expert field", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"mean":0.4}]}`, []string{"mean", string(ruleJSONField)}},
+		{"pool bad JSON", []string{"pool"}, `{"experts":[`, []string{"stdin", string(ruleJSONSyntax)}},
+		{"pool trailing data", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}]} {}`, []string{"stdin", string(ruleJSONSyntax)}},
+		{"pool string number", []string{"pool"}, `{"experts":[{"alpha":"2","beta":3}]}`, []string{"alpha", string(ruleJSONType)}},
+		{"pool NaN literal", []string{"pool"}, `{"experts":[{"alpha":NaN,"beta":3}]}`, []string{"stdin", string(ruleJSONSyntax)}},
+		{"pool no experts", []string{"pool"}, `{"experts":[]}`, []string{"experts", string(elicit.RuleCount)}},
+		{"pool missing beta", []string{"pool"}, `{"experts":[{"alpha":2}]}`, []string{"experts[0].beta", string(elicit.RuleRequired)}},
+		{"pool bad alpha", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3},{"alpha":-1,"beta":3}]}`, []string{"experts[1].alpha", string(elicit.RulePositive)}},
+		{"pool some weights", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":1},{"alpha":1,"beta":3}]}`, []string{"experts[1].weight", string(ruleAllOrNone)}},
+		{"pool negative weight", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":-1}]}`, []string{"experts[0].weight", string(elicit.RuleNonNegative)}},
+		{"pool zero weights", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":0}]}`, []string{"weight", string(elicit.RuleWeightsNotAllZero)}},
+		{"pool probs", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[0.5,1]}`, []string{"probs[1]", string(elicit.RuleProbOpen)}},
+		{"pool method", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"method":"mean"}`, []string{"method", string(elicit.RuleUnknown)}},
+		{"pool bounds", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"lower":1,"upper":1}`, []string{"lower", string(elicit.RuleBoundsOrder)}},
+		{"log pool underflow", []string{"pool"}, `{"experts":[{"alpha":5e-324,"beta":3},{"alpha":5e-324,"beta":3}],"method":"log"}`, []string{"alpha", string(elicit.RuleLogPoolValid)}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, tc.stdin, tc.args...)
+			if code != exitBadInput {
+				t.Errorf("exit %d, want 2; stderr %q", code, errOut)
+			}
+			if out != "" {
+				t.Errorf("stdout %q, want nothing", out)
+			}
+			if strings.Count(errOut, "\n") != 1 || !strings.HasSuffix(errOut, "\n") {
+				t.Errorf("stderr is not one line: %q", errOut)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(errOut, w) {
+					t.Errorf("stderr %q does not contain %q", errOut, w)
+				}
+			}
+		})
+	}
+}
+
+func TestScriptingBinary(t *testing.T) {
+	// The real binary: exit status and stderr as a shell sees them.
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	bin := filepath.Join(t.TempDir(), "parley")
+	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	tests := []struct {
+		args  []string
+		stdin string
+		code  int
+		want  string
+	}{
+		{[]string{"update", "--alpha", "2", "--beta", "38", "--successes", "51", "--trials", "50"}, "", 2, "successes: " + string(elicit.RuleCountRange)},
+		{[]string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"colour":"red"}`, 2, "colour: " + string(ruleJSONField)},
+		{[]string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,Inf"}, "", 2, "values[2]"},
+		{[]string{"update", "--alpha", "2", "--beta", "38", "--successes", "3", "--trials", "50", "--format", "json"}, "", 0, `"hdi"`},
+	}
+	for _, tc := range tests {
+		cmd := exec.Command(bin, tc.args...)
+		cmd.Stdin = strings.NewReader(tc.stdin)
+		var out, errOut bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &errOut
+		err := cmd.Run()
+		code := 0
+		if ee, ok := err.(*exec.ExitError); ok {
+			code = ee.ExitCode()
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if code != tc.code {
+			t.Errorf("%v: exit %d, want %d; stderr %q", tc.args, code, tc.code, errOut.String())
+		}
+		text := out.String()
+		if tc.code != 0 {
+			text = errOut.String()
+			if strings.Count(text, "\n") != 1 || strings.Contains(text, "goroutine") || out.Len() != 0 {
+				t.Errorf("%v: stderr %q, stdout %q", tc.args, text, out.String())
+			}
+		}
+		if !strings.Contains(text, tc.want) {
+			t.Errorf("%v: output %q does not contain %q", tc.args, text, tc.want)
+		}
+	}
+}
