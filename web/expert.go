@@ -11,6 +11,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/a-h/templ"
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -237,7 +238,8 @@ func ariaInvalid(f formField) string {
 	return "false"
 }
 
-func describedBy(f formField) string {
+// describedBy links the input to its hint and message, when it has them.
+func describedBy(f formField) templ.Attributes {
 	var ids []string
 	if f.Hint != "" {
 		ids = append(ids, f.ID+"-hint")
@@ -245,7 +247,10 @@ func describedBy(f formField) string {
 	if f.Error != "" {
 		ids = append(ids, f.ID+"-error")
 	}
-	return strings.Join(ids, " ")
+	if len(ids) == 0 {
+		return nil
+	}
+	return templ.Attributes{"aria-describedby": strings.Join(ids, " ")}
 }
 
 // expertRoutes are mounted under /e/{token} behind requireExpert, so
