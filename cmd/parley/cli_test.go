@@ -54,7 +54,9 @@ func scipyValue(t *testing.T, kind, alpha, beta, n, x string) float64 {
 	return 0
 }
 
-func nearRel(got, want, tol float64) bool { return math.Abs(got-want) <= tol*math.Max(math.Abs(want), 1e-300) }
+func nearRel(got, want, tol float64) bool {
+	return math.Abs(got-want) <= tol*math.Max(math.Abs(want), 1e-300)
+}
 
 func TestUpdateJSON(t *testing.T) {
 	// Invented case: prior Beta(2, 38), 3 successes in 50 trials.
