@@ -105,8 +105,21 @@ func TestFormatValue(t *testing.T) {
 // TestFitPointsAtTheirPixels checks the stated points sit where the axes'
 // own tick labels say they should.
 func TestFitPointsAtTheirPixels(t *testing.T) {
-	d := sbeta(4.2, 17.9, 0, 1)
-	pts := []Point{{0.06, 0.05}, {0.18, 0.5}, {0.36, 0.95}}
+	cases := []struct {
+		d   elicit.ScaledBeta
+		pts []Point
+	}{
+		{sbeta(4.2, 17.9, 0, 1), []Point{{0.06, 0.05}, {0.18, 0.5}, {0.36, 0.95}}},
+		{sbeta(3, 5, 10, 500), []Point{{60, 0.1}, {180, 0.5}, {320, 0.9}}},  // a count on [10, 500]
+		{sbeta(2000, 50000, 0, 1), []Point{{0.0375, 0.25}, {0.0388, 0.75}}}, // zoomed far in
+	}
+	for _, c := range cases {
+		checkFitPoints(t, c.d, c.pts)
+	}
+}
+
+func checkFitPoints(t *testing.T, d elicit.ScaledBeta, pts []Point) {
+	t.Helper()
 	ns := parse(t, render(t, Fit(fitViewOf(d, pts...))))
 	var xgrid, pgrid []node
 	for _, n := range find(ns, "line", "grid-x") {
