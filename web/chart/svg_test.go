@@ -104,6 +104,10 @@ var pathNumber = regexp.MustCompile(`-?[0-9.]+(e-?[0-9]+)?|[A-Za-z]+`)
 // coordinate outside the SVG's viewBox.
 func checkFinite(t *testing.T, html string) {
 	t.Helper()
+	// CSP is style-src 'self': no inline style attribute or element.
+	if strings.Contains(html, " style=") || strings.Contains(html, "<style") {
+		t.Error("output carries inline style")
+	}
 	for _, bad := range []string{"NaN", "Inf", "not available"} {
 		if strings.Contains(html, bad) {
 			t.Errorf("output contains %q", bad)
