@@ -298,3 +298,81 @@ func TestBestBetaReportsDistance(t *testing.T) {
 		t.Errorf("least-squares SSE %v not below moment-matched %v", r.SSE, mmSSE)
 	}
 }
+
+// bisectQuantile is an independent reference: plain bisection of the
+// mixture CDF in u over [0, 1], 2000 halvings of a geometric-or-linear
+// split, sharing nothing with quantileIn but unitCDF.
+func bisectQuantile(p Pool, prob float64) float64 {
+	lo, hi := 0.0, 1.0
+	for i := 0; i < 2000; i++ {
+		mid := 0.5 * (lo + hi)
+		if lo > 0 && hi < 1e-3 {
+			mid = math.Sqrt(lo * hi)
+		} else if lo == 0 && hi < 1e-3 {
+			mid = hi / 1024
+		}
+		if mid <= lo || mid >= hi {
+			break
+		}
+		if p.unitCDF(mid) < prob {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	return 0.5 * (lo + hi)
+}
+
+func TestPoolQuantileExtremeShapes(t *testing.T) {
+	// Extreme and disagreeing experts (invented), the hard cases for a
+	// root finder: a U shape, a rare-event J shape, a near-certain expert
+	// near 1, and a sharp one in the middle. The roots must agree with
+	// plain bisection to 1e-10 absolute, or relatively near 0.
+	pools := []struct {
+		ds []ScaledBeta
+		w  []float64
+	}{
+		{unitBetas(0.05, 0.05, 0.2, 1000), []float64{1, 1}},
+		{unitBetas(5000, 3, 2, 2), []float64{1, 4}},
+		{unitBetas(0.3, 40, 400, 400, 3, 1), []float64{2, 1, 1}},
+		{unitBetas(1, 1, 10000, 10000), []float64{0.01, 0.99}},
+		{unitBetas(0.5, 3, 0.5, 3), []float64{1, 1}},
+	}
+	probs := []float64{1e-9, 1e-4, 0.01, 0.1, 0.3, 0.4999, 0.5, 0.7, 0.9, 0.99, 0.9999, 1 - 1e-9}
+	for k, pc := range pools {
+		p := mustPool(t, pc.ds, pc.w)
+		qs, err := p.Quantiles(probs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, pr := range probs {
+			want := bisectQuantile(p, pr)
+			for _, got := range []float64{qs[i], p.Quantile(pr)} {
+				if math.Abs(got-want) > 1e-10 && !relClose(got, want, 1e-9) {
+					t.Errorf("pool %d at %v: %.17g, bisection %.17g", k, pr, got, want)
+				}
+			}
+		}
+	}
+}
+
+func FuzzPoolQuantiles(f *testing.F) {
+	f.Add(2.0, 8.0, 9.0, 3.0, 0.5, 0.3)
+	f.Add(0.05, 0.05, 1e4, 2.0, 0.01, 0.999)
+	f.Fuzz(func(t *testing.T, a1, b1, a2, b2, w, pr float64) {
+		p, err := LinearPool(unitBetas(a1, b1, a2, b2), []float64{w, 1})
+		if err != nil {
+			return
+		}
+		qs, err := p.Quantiles([]float64{pr})
+		if err != nil {
+			return
+		}
+		if math.IsNaN(qs[0]) || qs[0] < 0 || qs[0] > 1 {
+			t.Fatalf("quantile %v at %v of %+v", qs[0], pr, p.Components)
+		}
+		if m, v := p.Mean(), p.Variance(); math.IsNaN(m) || math.IsNaN(v) {
+			t.Fatalf("mean %v variance %v", m, v)
+		}
+	})
+}
