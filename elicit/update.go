@@ -76,7 +76,7 @@ func EqualTailed(d Beta, level float64) (lo, hi float64, err error) {
 //     have equal density, f(lo) = f(hi), the first-order condition for the
 //     least width Q(t + level) − Q(t) over the lower tail mass t. With a
 //     log-concave density log f(Q(t + level)) − log f(Q(t)) decreases in t,
-//     so its root is found by bisection on t in [0, 1 − level].
+//     so its root is bracketed in [0, 1 − level] (see hdiInterior).
 //   - density non-increasing (α ≤ 1 ≤ β, not both 1): [0, Q(level)].
 //   - density non-decreasing (β ≤ 1 ≤ α, not both 1): [Q(1 − level), 1].
 //   - Beta(1, 1), uniform: every interval of width level is shortest; HDI
@@ -107,21 +107,48 @@ func HDI(d Beta, level float64) (lo, hi float64, err error) {
 		}
 		return right, 1, nil
 	}
-	// log f up to its constant; −Inf at the bounds.
+	lo, hi = hdiInterior(d, level)
+	return lo, hi, nil
+}
+
+// hdiInterior solves g(t) = log f(Q(t + level)) − log f(Q(t)) = 0 for the
+// lower tail mass t of the HDI of a Beta with α, β > 1, where g decreases
+// in t. It runs Newton's method on g, with
+// g′(t) = (log f)′(hi)/f(hi) − (log f)′(lo)/f(lo) and
+// (log f)′(x) = (α−1)/x − (β−1)/(1−x), from the equal-tailed interval,
+// inside a bracket on t that every evaluation narrows; a step that leaves
+// the bracket is replaced by bisection, geometric near 0 (see bisect)
+// because for α just above 1 the tail mass t can be below 1e-15.
+func hdiInterior(d Beta, level float64) (lo, hi float64) {
+	a, b := d.Alpha, d.Beta
 	logf := func(x float64) float64 { return (a-1)*math.Log(x) + (b-1)*math.Log1p(-x) }
-	// The bisection on t is geometric near 0 (see bisect), because for α
-	// just above 1 the lower tail mass t of the HDI can be below 1e-15.
+	dlogf := func(x float64) float64 { return (a-1)/x - (b-1)/(1-x) }
 	tLo, tHi := 0.0, 1-level
-	for i := 0; i < 2000 && !converged(tLo, tHi); i++ {
-		t := bisect(tLo, tHi)
-		if logf(d.Quantile(t+level)) > logf(d.Quantile(t)) {
+	t := (1 - level) / 2
+	for i := 0; i < 2000; i++ {
+		lo, hi = d.Quantile(t), d.Quantile(t+level)
+		g := logf(hi) - logf(lo)
+		switch {
+		case g > 0:
 			tLo = t
-		} else {
+		case g < 0:
 			tHi = t
+		default:
+			return lo, hi
 		}
+		if converged(tLo, tHi) {
+			break
+		}
+		next := t - g/(dlogf(hi)/d.PDF(hi)-dlogf(lo)/d.PDF(lo))
+		if !(next > tLo && next < tHi) {
+			next = bisect(tLo, tHi)
+		} else if math.Abs(next-t) <= 1e-13*next {
+			t = next
+			break
+		}
+		t = next
 	}
-	t := 0.5 * (tLo + tHi)
-	return d.Quantile(t), d.Quantile(t + level), nil
+	return d.Quantile(t), d.Quantile(t + level)
 }
 
 // PriorPredictive is the prior predictive distribution of the number of
