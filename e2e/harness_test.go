@@ -16,6 +16,7 @@ import (
 
 	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/cdproto/input"
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 
@@ -168,6 +169,7 @@ func (p *person) do(what string, steps ...chromedp.Action[chromedp.Void]) {
 	p.t.Helper()
 	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
 	defer cancel()
+	defer p.slow(what, time.Now())
 	if err := chromedp.Do(ctx, steps...); err != nil {
 		p.t.Fatalf("%s: %s: %v", p.name, what, err)
 	}
@@ -180,6 +182,7 @@ func (p *person) load(what string, step chromedp.Action[chromedp.Void]) int64 {
 	p.t.Helper()
 	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
 	defer cancel()
+	defer p.slow(what, time.Now())
 	resp, err := chromedp.RunResponse(ctx, step)
 	if err != nil {
 		p.t.Fatalf("%s: %s: %v", p.name, what, err)
@@ -242,7 +245,12 @@ func eval[T any](p *person, what, expr string) T {
 // text is what a person reads on the page: the body's rendered text.
 func (p *person) text() string {
 	p.t.Helper()
-	return eval[string](p, "read the page", `document.body.innerText`)
+	// A page that is still loading (after a script's form post) has no
+	// body yet; wait for it.
+	return eval[string](p, "read the page", `new Promise(resolve => {
+		const read = () => document.readyState === "complete" && document.body ? resolve(document.body.innerText) : setTimeout(read, 20);
+		read();
+	})`)
 }
 
 // url is the address in this person's address bar.
@@ -262,6 +270,9 @@ func (p *person) sees(where string, phrases ...string) {
 	}
 }
 
+// typedLength is the longest value fill types key by key.
+const typedLength = 12
+
 // fill replaces the value of the form field named name inside the form
 // matched by formSel, typing it as a person would (so input events fire).
 func (p *person) fill(formSel, name, value string) {
@@ -271,7 +282,16 @@ func (p *person) fill(formSel, name, value string) {
 		`(() => { const el = document.querySelector(%q); if (!el) return 0; el.value = ""; return 1; })()`, css)); n != 1 {
 		p.t.Fatalf("%s: no field %s on %s", p.name, css, p.url())
 	}
-	p.do("type "+name, chromedp.SendKeys(chromedp.CSS(css), value))
+	if len(value) <= typedLength {
+		p.do("type "+name, chromedp.SendKeys(chromedp.CSS(css), value))
+		return
+	}
+	// Longer text arrives as one input, the way a paste or a phone's
+	// keyboard suggestion does; key by key it costs seconds per field.
+	p.do("enter "+name, chromedp.Focus(chromedp.CSS(css)), chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, input.InsertText, input.InsertTextParams{Text: value})
+		return err
+	}))
 }
 
 // count is the number of elements matching a CSS selector.
@@ -292,6 +312,16 @@ func (p *person) circles(css string) []point {
 	p.t.Helper()
 	return eval[[]point](p, "read "+css, fmt.Sprintf(
 		`Array.from(document.querySelectorAll(%q)).map(c => ({x: parseFloat(c.getAttribute("cx")), y: parseFloat(c.getAttribute("cy"))}))`, css))
+}
+
+// slowStep is how long a step may take before the log says so, to find
+// what makes the run slow.
+const slowStep = 2 * time.Second
+
+func (p *person) slow(what string, start time.Time) {
+	if d := time.Since(start); d > slowStep {
+		p.t.Logf("%s: %s took %v", p.name, what, d.Round(time.Millisecond))
+	}
 }
 
 // noScriptErrors fails when a page script threw.
@@ -364,12 +394,35 @@ func clip(s string, n int) string {
 // waitFor waits until the script expression is truthy in the page.
 func (p *person) waitFor(what, expr string) {
 	p.t.Helper()
-	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
-	defer cancel()
-	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](expr, chromedp.WithPollingInterval(50*time.Millisecond), chromedp.WithPollingTimeout(stepTimeout))); err != nil {
+	if err := p.poll(stepTimeout, expr); err != nil {
 		p.t.Fatalf("%s: wait for %s: %v\npage shows:\n%s", p.name, what, err, clip(p.text(), 2000))
 	}
 	p.noScriptErrors(what)
+}
+
+// poll evaluates expr every 50 ms until it is true or limit passes. A
+// page that navigates in between (a script's form post) only delays it.
+func (p *person) poll(limit time.Duration, expr string) error {
+	ctx, cancel := context.WithTimeout(p.ctx, limit)
+	defer cancel()
+	var last error
+	for {
+		ok, err := chromedp.Run(ctx, chromedp.Evaluate[bool](expr))
+		if err == nil && ok {
+			return nil
+		}
+		if err != nil {
+			last = err
+		}
+		select {
+		case <-ctx.Done():
+			if last != nil {
+				return fmt.Errorf("%w (last error: %v)", ctx.Err(), last)
+			}
+			return ctx.Err()
+		case <-time.After(50 * time.Millisecond):
+		}
+	}
 }
 
 // value is the current value of the form field matched by css.

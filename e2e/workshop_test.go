@@ -630,9 +630,7 @@ func livePreview(t *testing.T, ex *person, n int, before []point) []point {
 		const cs = Array.from(document.querySelectorAll(%q)).map(c => ({x: parseFloat(c.getAttribute("cx")), y: parseFloat(c.getAttribute("cy"))}));
 		return cs.length === %d && JSON.stringify(cs) !== %q && !document.querySelector("#preview[aria-busy=true]");
 	})()`, previewCircles, n, string(beforeJSON))
-	ctx, cancel := context.WithTimeout(ex.ctx, 5*time.Second)
-	defer cancel()
-	if _, err := chromedp.Run(ctx, chromedp.Poll[bool](expr, chromedp.WithPollingInterval(50*time.Millisecond))); err != nil {
+	if err := ex.poll(5*time.Second, expr); err != nil {
 		t.Errorf("%s: the live preview did not redraw %d stated points within 5 s of typing (%v); using the Show the fit button", ex.name, n, err)
 		ex.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
 		ex.waitFor("the fit after Show the fit", expr)
