@@ -1,0 +1,755 @@
+package elicit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+// Rules of the classical model's input.
+const (
+	RuleSameProbs       Rule = "all assessments must use the same probabilities"
+	RuleDuplicate       Rule = "must not repeat"
+	RuleUnitInterval    Rule = "must lie in [0, 1]"
+	RuleInRange         Rule = "must lie within [lower, upper]"
+	RuleAlphaTooHigh    Rule = "must not exceed the highest calibration score"
+	RuleNoScoredExperts Rule = "no expert has a calibration × information score above 0"
+)
+
+// DefaultOvershoot is the k of the intrinsic range: the range spanned by
+// the experts' outer quantiles and the realisation is widened by k times
+// its width on each side (Cooke 1991, "Experts in Uncertainty", §12.4).
+// 10% is the customary choice in applications (from memory; Cooke &
+// Goossens 2008, "TU Delft expert judgment data base", Reliab. Eng. Syst.
+// Saf. 93: 657–674, use it throughout).
+const DefaultOvershoot = 0.1
+
+// SeedAssessment is one expert's quantiles for one calibration (seed)
+// question: P(X ≤ Quantiles[i]) = Probs[i] in the expert's judgement.
+type SeedAssessment struct {
+	Expert    string    `json:"expert"`
+	Question  string    `json:"question"`
+	Probs     []float64 `json:"probs"`
+	Quantiles []float64 `json:"quantiles"`
+}
+
+// Validate checks that the names are given, that Probs pass CheckProbs and
+// that there is one finite, strictly increasing quantile per probability.
+func (a SeedAssessment) Validate() error {
+	if a.Expert == "" {
+		return inputErr("expert", RuleRequired, "empty name")
+	}
+	if a.Question == "" {
+		return inputErr("question", RuleRequired, "empty name")
+	}
+	if len(a.Probs) == 0 {
+		return inputErr("probs", RuleCount, "need at least 1 probability, got 0")
+	}
+	if err := CheckProbs("probs", a.Probs); err != nil {
+		return err
+	}
+	if len(a.Quantiles) != len(a.Probs) {
+		return inputErr("quantiles", RuleLengthMatch, "%d probabilities, %d quantiles", len(a.Probs), len(a.Quantiles))
+	}
+	for i, q := range a.Quantiles {
+		if math.IsNaN(q) || math.IsInf(q, 0) {
+			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleFinite, "got %v", q)
+		}
+		if i > 0 && !(q > a.Quantiles[i-1]) {
+			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleValueIncreasing, "%v after %v", q, a.Quantiles[i-1])
+		}
+	}
+	return nil
+}
+
+// ModelOptions tunes ClassicalModel. The zero value optimises α and uses
+// DefaultOvershoot.
+type ModelOptions struct {
+	// Alpha is a fixed calibration cut-off in [0, 1]; nil chooses the
+	// cut-off that maximises the decision maker's combined score.
+	Alpha *float64
+	// Overshoot is the k of the intrinsic range; 0 means DefaultOvershoot.
+	Overshoot float64
+}
+
+// ExpertScore is one expert's performance on the calibration questions.
+type ExpertScore struct {
+	Expert      string  `json:"expert"`
+	Calibration float64 `json:"calibration"`
+	Information float64 `json:"information"`
+	Combined    float64 `json:"combined"` // Calibration × Information
+	Weight      float64 `json:"weight"`   // normalised; 0 below the cut-off
+	N           int     `json:"n"`        // calibration questions answered
+}
+
+// PooledScore is the performance-weighted decision maker's score, computed
+// as for an expert from its quantiles at the experts' probabilities.
+type PooledScore struct {
+	Calibration float64 `json:"calibration"`
+	Information float64 `json:"information"`
+	Combined    float64 `json:"combined"`
+	N           int     `json:"n"`
+}
+
+// SeedResult is one calibration question's intrinsic range and the
+// decision maker's quantiles on it (nil when no expert with weight
+// answered the question).
+type SeedResult struct {
+	Question    string    `json:"question"`
+	Realisation float64   `json:"realisation"`
+	Lower       float64   `json:"lower"` // L*, the intrinsic range's lower end
+	Upper       float64   `json:"upper"` // U*
+	Pooled      []float64 `json:"pooled"`
+}
+
+// Scores is the outcome of the classical model. Experts and Questions are
+// sorted by name.
+type Scores struct {
+	Alpha     float64       `json:"alpha"`
+	Probs     []float64     `json:"probs"`
+	Overshoot float64       `json:"overshoot"`
+	Experts   []ExpertScore `json:"experts"`
+	Pooled    PooledScore   `json:"pooled"`
+	Questions []SeedResult  `json:"questions"`
+}
+
+// Weights returns the experts' normalised weights by name.
+func (s Scores) Weights() map[string]float64 {
+	w := make(map[string]float64, len(s.Experts))
+	for _, e := range s.Experts {
+		w[e.Expert] = e.Weight
+	}
+	return w
+}
+
+// ClassicalModel scores experts on calibration questions by Cooke's
+// classical model (Cooke 1991, "Experts in Uncertainty", ch. 12; Cooke &
+// Goossens 2008, Reliab. Eng. Syst. Saf. 93: 657–674) and weights them.
+//
+// With bin probabilities pⱼ (p₁, p₂−p₁, …, 1−pₙ for probabilities
+// p₁ < … < pₙ), an expert who answered N questions, and sⱼ the fraction of
+// realisations in bin j, the calibration score is
+//
+//	C = 1 − F_χ²(2·N·I(s, p); n),  I(s, p) = Σⱼ sⱼ ln(sⱼ/pⱼ),
+//
+// (CalibrationScore), the information score is the mean over the expert's
+// questions of InformationScore on each question's intrinsic range, and
+// the weight is w ∝ C·I·1{C ≥ α}, normalised to sum to 1.
+//
+// Each question's intrinsic range [L*, U*] runs from L = the smallest of
+// all experts' lowest quantiles and the realisation to U = the largest of
+// the highest quantiles and the realisation, widened by k(U−L) on each
+// side and cut to bounds[question] where given (Cooke 1991, §12.4).
+//
+// The decision maker (DM) on each question is the weighted linear pool of
+// the minimal-information distributions of the experts who answered it
+// (weights renormalised over them), and is scored like an expert from its
+// quantiles at the same probabilities on the same intrinsic ranges. When
+// opt.Alpha is nil, α is the candidate that maximises the DM's C·I; the
+// candidates are the experts' calibration scores (α = 0 gives the same
+// weights as the smallest), and ties go to the smaller α.
+//
+// Every question answered must have a finite realisation; a realisation
+// must lie within the question's bounds and quantiles strictly inside
+// them. All assessments must share one set of probabilities and each
+// (expert, question) pair may appear once. The result does not depend on
+// the order of assessments: experts and questions are sorted by name.
+func ClassicalModel(assessments []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, opt ModelOptions) (Scores, error) {
+	set, err := newSeedSet(assessments, realisations, bounds, opt.Overshoot)
+	if err != nil {
+		return Scores{}, err
+	}
+	if opt.Alpha != nil {
+		a := *opt.Alpha
+		if math.IsNaN(a) || math.IsInf(a, 0) {
+			return Scores{}, inputErr("alpha", RuleFinite, "got %v", a)
+		}
+		if a < 0 || a > 1 {
+			return Scores{}, inputErr("alpha", RuleUnitInterval, "got %v", a)
+		}
+	}
+	return set.score(opt.Alpha)
+}
+
+// seedSet is validated classical-model input, sorted by name.
+type seedSet struct {
+	probs     []float64
+	binP      []float64 // p₁, p₂−p₁, …, 1−pₙ
+	overshoot float64
+	experts   []string
+	questions []seedQuestion
+}
+
+type seedQuestion struct {
+	name        string
+	realisation float64
+	lo, hi      float64 // intrinsic range [L*, U*]
+	answers     []seedAnswer
+	knots       []float64   // see prepareKnots
+	cdfAt       [][]float64 // cdfAt[answer][knot]
+}
+
+type seedAnswer struct {
+	expert int
+	q      []float64
+}
+
+func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, k float64) (*seedSet, error) {
+	if math.IsNaN(k) || math.IsInf(k, 0) {
+		return nil, inputErr("overshoot", RuleFinite, "got %v", k)
+	}
+	if k < 0 {
+		return nil, inputErr("overshoot", RuleNonNegative, "got %v", k)
+	}
+	if k == 0 {
+		k = DefaultOvershoot
+	}
+	if len(as) == 0 {
+		return nil, inputErr("assessments", RuleCount, "need at least 1 assessment, got 0")
+	}
+	s := &seedSet{probs: append([]float64(nil), as[0].Probs...), overshoot: k}
+	byQuestion := map[string][]int{}
+	experts := map[string]bool{}
+	seen := map[[2]string]int{}
+	for i, a := range as {
+		field := func() string { return fmt.Sprintf("assessments[%d]", i) }
+		if err := a.Validate(); err != nil {
+			return nil, prefixField(field(), err)
+		}
+		if !sameFloats(a.Probs, s.probs) {
+			return nil, inputErr(field()+".probs", RuleSameProbs, "%v differs from %v", a.Probs, s.probs)
+		}
+		key := [2]string{a.Expert, a.Question}
+		if j, dup := seen[key]; dup {
+			return nil, inputErr(field(), RuleDuplicate, "expert %q, question %q already in assessments[%d]", a.Expert, a.Question, j)
+		}
+		seen[key] = i
+		byQuestion[a.Question] = append(byQuestion[a.Question], i)
+		experts[a.Expert] = true
+	}
+	s.binP = binProbs(s.probs)
+	for e := range experts {
+		s.experts = append(s.experts, e)
+	}
+	sort.Strings(s.experts)
+	index := make(map[string]int, len(s.experts))
+	for i, e := range s.experts {
+		index[e] = i
+	}
+	names := make([]string, 0, len(byQuestion))
+	for q := range byQuestion {
+		names = append(names, q)
+	}
+	sort.Strings(names)
+	for _, name := range names {
+		q, err := newSeedQuestion(name, as, byQuestion[name], index, realisations, bounds, k)
+		if err != nil {
+			return nil, err
+		}
+		q.prepareKnots(s.probs)
+		s.questions = append(s.questions, q)
+	}
+	return s, nil
+}
+
+func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[string]int, realisations map[string]float64, bounds map[string][2]float64, k float64) (seedQuestion, error) {
+	x, ok := realisations[name]
+	field := "realisations[" + strconv.Quote(name) + "]"
+	if !ok {
+		return seedQuestion{}, inputErr(field, RuleRequired, "question %q has no realisation", name)
+	}
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return seedQuestion{}, inputErr(field, RuleFinite, "got %v", x)
+	}
+	q := seedQuestion{name: name, realisation: x}
+	lo, hi := x, x
+	b, bounded := bounds[name]
+	if bounded {
+		bf := fmt.Sprintf("bounds[%q]", name)
+		if math.IsNaN(b[0]) || math.IsInf(b[0], 0) || math.IsNaN(b[1]) || math.IsInf(b[1], 0) {
+			return seedQuestion{}, inputErr(bf, RuleFinite, "got [%v, %v]", b[0], b[1])
+		}
+		if !(b[0] < b[1]) {
+			return seedQuestion{}, inputErr(bf, RuleBoundsOrder, "got [%v, %v]", b[0], b[1])
+		}
+		if x < b[0] || x > b[1] {
+			return seedQuestion{}, inputErr(field, RuleInRange, "%v outside [%v, %v]", x, b[0], b[1])
+		}
+	}
+	for _, i := range rows {
+		a := as[i]
+		if bounded {
+			for j, v := range a.Quantiles {
+				if !(v > b[0] && v < b[1]) {
+					return seedQuestion{}, inputErr(fmt.Sprintf("assessments[%d].quantiles[%d]", i, j), RuleValueInBounds,
+						"%v not inside (%v, %v)", v, b[0], b[1])
+				}
+			}
+		}
+		lo = math.Min(lo, a.Quantiles[0])
+		hi = math.Max(hi, a.Quantiles[len(a.Quantiles)-1])
+		q.answers = append(q.answers, seedAnswer{expert: index[a.Expert], q: a.Quantiles})
+	}
+	sort.Slice(q.answers, func(i, j int) bool { return q.answers[i].expert < q.answers[j].expert })
+	q.lo, q.hi = intrinsicRange(lo, hi, k)
+	if bounded {
+		q.lo, q.hi = math.Max(q.lo, b[0]), math.Min(q.hi, b[1])
+	}
+	return q, nil
+}
+
+// intrinsicRange widens [lo, hi] by k(hi−lo) on each side.
+func intrinsicRange(lo, hi, k float64) (float64, float64) {
+	w := hi - lo
+	return lo - k*w, hi + k*w
+}
+
+func sameFloats(a, b []float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for i := range a {
+		if a[i] != b[i] {
+			return false
+		}
+	}
+	return true
+}
+
+// binProbs returns the inter-quantile bin probabilities p₁, p₂−p₁, …, 1−pₙ.
+func binProbs(probs []float64) []float64 {
+	p := make([]float64, len(probs)+1)
+	prev := 0.0
+	for i, pr := range probs {
+		p[i] = pr - prev
+		prev = pr
+	}
+	p[len(probs)] = 1 - prev
+	return p
+}
+
+// binOf is the inter-quantile bin holding x: the number of quantiles
+// strictly below x, so a realisation equal to a quantile counts in the bin
+// below it, as P(X ≤ q) = p.
+func binOf(q []float64, x float64) int {
+	n := 0
+	for _, v := range q {
+		if v < x {
+			n++
+		}
+	}
+	return n
+}
+
+// score computes expert scores, then weights and the DM for alpha (nil:
+// optimise).
+func (s *seedSet) score(alpha *float64) (Scores, error) {
+	out := Scores{Probs: s.probs, Overshoot: s.overshoot, Experts: make([]ExpertScore, len(s.experts))}
+	counts := make([][]int, len(s.experts))
+	info := make([]float64, len(s.experts))
+	for e, name := range s.experts {
+		out.Experts[e].Expert = name
+		counts[e] = make([]int, len(s.binP))
+	}
+	for _, q := range s.questions {
+		for _, a := range q.answers {
+			counts[a.expert][binOf(a.q, q.realisation)]++
+			info[a.expert] += information(a.q, s.binP, q.lo, q.hi)
+			out.Experts[a.expert].N++
+		}
+	}
+	maxCal := 0.0
+	for e := range out.Experts {
+		es := &out.Experts[e]
+		es.Calibration = calibration(counts[e], es.N, s.binP)
+		es.Information = info[e] / float64(es.N)
+		es.Combined = es.Calibration * es.Information
+		if es.Combined > 0 {
+			maxCal = math.Max(maxCal, es.Calibration)
+		}
+	}
+	if maxCal == 0 {
+		return Scores{}, inputErr("experts", RuleNoScoredExperts, "every calibration score is 0")
+	}
+	var a float64
+	switch {
+	case alpha != nil && *alpha > maxCal:
+		return Scores{}, inputErr("alpha", RuleAlphaTooHigh, "%v above %v", *alpha, maxCal)
+	case alpha != nil:
+		a = *alpha
+	default:
+		a = s.bestAlpha(out.Experts)
+	}
+	w := cutWeights(out.Experts, a)
+	for e := range out.Experts {
+		out.Experts[e].Weight = w[e]
+	}
+	out.Alpha = a
+	out.Pooled, out.Questions = s.decisionMaker(w)
+	return out, nil
+}
+
+// bestAlpha returns the candidate cut-off (an expert's calibration score)
+// whose DM has the largest combined score; ties go to the smaller α.
+func (s *seedSet) bestAlpha(es []ExpertScore) float64 {
+	var cands []float64
+	for _, e := range es {
+		if e.Combined > 0 {
+			cands = append(cands, e.Calibration)
+		}
+	}
+	sort.Float64s(cands)
+	best, bestScore := cands[0], math.Inf(-1)
+	for i, a := range cands {
+		if i > 0 && a == cands[i-1] {
+			continue
+		}
+		dm, _ := s.decisionMaker(cutWeights(es, a))
+		if dm.Combined > bestScore {
+			best, bestScore = a, dm.Combined
+		}
+	}
+	return best
+}
+
+// cutWeights returns w ∝ C·I·1{C ≥ α}, normalised to sum to 1. The caller
+// guarantees that some expert with C·I > 0 has C ≥ α.
+func cutWeights(es []ExpertScore, alpha float64) []float64 {
+	w := make([]float64, len(es))
+	sum := 0.0
+	for i, e := range es {
+		if e.Calibration >= alpha {
+			w[i] = e.Combined
+			sum += w[i]
+		}
+	}
+	for i := range w {
+		w[i] /= sum
+	}
+	return w
+}
+
+// decisionMaker pools the experts on each question with weights w and
+// scores the pool like an expert.
+func (s *seedSet) decisionMaker(w []float64) (PooledScore, []SeedResult) {
+	res := make([]SeedResult, len(s.questions))
+	counts := make([]int, len(s.binP))
+	var dm PooledScore
+	info := 0.0
+	for i, q := range s.questions {
+		res[i] = SeedResult{Question: q.name, Realisation: q.realisation, Lower: q.lo, Upper: q.hi}
+		d, ok := s.poolQuestion(q, w)
+		if !ok {
+			continue
+		}
+		qs := make([]float64, len(s.probs))
+		for j, p := range s.probs {
+			qs[j] = d.Quantile(p)
+		}
+		res[i].Pooled = qs
+		counts[binOf(qs, q.realisation)]++
+		info += information(qs, s.binP, q.lo, q.hi)
+		dm.N++
+	}
+	if dm.N == 0 {
+		return dm, res
+	}
+	dm.Calibration = calibration(counts, dm.N, s.binP)
+	dm.Information = info / float64(dm.N)
+	dm.Combined = dm.Calibration * dm.Information
+	return dm, res
+}
+
+// poolQuestion is the weighted linear pool Σ wᵢ Fᵢ / Σ wᵢ of the
+// minimal-information distributions of q's answers: piecewise uniform on
+// the union of their knots. ok is false when no answer has weight.
+func (s *seedSet) poolQuestion(q seedQuestion, w []float64) (PiecewiseUniform, bool) {
+	f := make([]float64, len(q.knots))
+	sum := 0.0
+	for i, a := range q.answers {
+		wi := w[a.expert]
+		if wi <= 0 {
+			continue
+		}
+		sum += wi
+		for k, v := range q.cdfAt[i] {
+			f[k] += wi * v
+		}
+	}
+	if sum == 0 {
+		return PiecewiseUniform{}, false
+	}
+	for k := range f {
+		f[k] /= sum
+	}
+	f[0], f[len(f)-1] = 0, 1
+	return PiecewiseUniform{X: q.knots, F: f}, true
+}
+
+// prepareKnots sets q's knots, the union of L*, U* and every answer's
+// quantiles, and each answer's minimal-information CDF at them, which do
+// not depend on the weights.
+func (q *seedQuestion) prepareKnots(probs []float64) {
+	xs := []float64{q.lo, q.hi}
+	for _, a := range q.answers {
+		xs = append(xs, a.q...)
+	}
+	sort.Float64s(xs)
+	q.knots = xs[:0]
+	for i, x := range xs {
+		if i == 0 || x != xs[i-1] {
+			q.knots = append(q.knots, x)
+		}
+	}
+	q.cdfAt = make([][]float64, len(q.answers))
+	for i, a := range q.answers {
+		d := minimalInformation(a.q, probs, q.lo, q.hi)
+		q.cdfAt[i] = make([]float64, len(q.knots))
+		for k, x := range q.knots {
+			q.cdfAt[i][k] = d.CDF(x)
+		}
+	}
+}
+
+// CalibrationScore is Cooke's calibration score for counts[j] realisations
+// in inter-quantile bin j (j = 0 below the first quantile, j = n above the
+// last) of an expert who gave quantiles at probs:
+//
+//	C = 1 − F_χ²(2·N·I(s, p); n),  I(s, p) = Σⱼ sⱼ ln(sⱼ/pⱼ),  0·ln 0 = 0,
+//
+// with N = Σ counts, sⱼ = counts[j]/N, pⱼ the bin probabilities and F_χ²
+// the chi-square CDF with n = len(probs) degrees of freedom: for a
+// perfectly calibrated expert 2·N·I is asymptotically χ²(n) (Cooke 1991,
+// "Experts in Uncertainty", §12.3).
+func CalibrationScore(counts []int, probs []float64) (float64, error) {
+	if err := CheckProbs("probs", probs); err != nil {
+		return 0, err
+	}
+	if len(probs) == 0 {
+		return 0, inputErr("probs", RuleCount, "need at least 1 probability, got 0")
+	}
+	if len(counts) != len(probs)+1 {
+		return 0, inputErr("counts", RuleCount, "%d probabilities need %d bins, got %d", len(probs), len(probs)+1, len(counts))
+	}
+	n := 0
+	for i, c := range counts {
+		if c < 0 {
+			return 0, inputErr(fmt.Sprintf("counts[%d]", i), RuleNonNegative, "got %d", c)
+		}
+		n += c
+	}
+	if n == 0 {
+		return 0, inputErr("counts", RuleCount, "no realisations")
+	}
+	return calibration(counts, n, binProbs(probs)), nil
+}
+
+// RelativeInformation is I(s, p) = Σⱼ sⱼ ln(sⱼ/pⱼ) with 0·ln 0 = 0
+// (Kullback & Leibler 1951, Ann. Math. Statist. 22: 79–86), for
+// unvalidated s and p of the same length with pⱼ > 0.
+func relativeInformation(s, p []float64) float64 {
+	sum := 0.0
+	for j := range s {
+		if s[j] > 0 {
+			sum += s[j] * math.Log(s[j]/p[j])
+		}
+	}
+	return sum
+}
+
+func calibration(counts []int, n int, binP []float64) float64 {
+	s := make([]float64, len(counts))
+	for j, c := range counts {
+		s[j] = float64(c) / float64(n)
+	}
+	stat := 2 * float64(n) * relativeInformation(s, binP)
+	if stat <= 0 {
+		return 1 // rounding can make I slightly negative when s = p
+	}
+	return distuv.ChiSquared{K: float64(len(binP) - 1)}.Survival(stat)
+}
+
+// InformationScore is the relative information, on one question with
+// intrinsic range [lower, upper], of an expert's minimal-information
+// distribution (uniform between the quantiles x₁ < … < xₙ, with bin masses
+// pⱼ) with respect to the uniform background on the range:
+//
+//	I = Σⱼ pⱼ ln(pⱼ / ((xⱼ − xⱼ₋₁)/(U* − L*))),  x₀ = L*, xₙ₊₁ = U*
+//
+// (Cooke 1991, "Experts in Uncertainty", §12.4). The quantiles must lie
+// strictly inside (lower, upper).
+func InformationScore(quantiles, probs []float64, lower, upper float64) (float64, error) {
+	a := SeedAssessment{Expert: "-", Question: "-", Probs: probs, Quantiles: quantiles}
+	if err := a.Validate(); err != nil {
+		return 0, err
+	}
+	if math.IsNaN(lower) || math.IsInf(lower, 0) || math.IsNaN(upper) || math.IsInf(upper, 0) {
+		return 0, inputErr("lower", RuleFinite, "got [%v, %v]", lower, upper)
+	}
+	if !(lower < upper) {
+		return 0, inputErr("lower", RuleBoundsOrder, "got [%v, %v]", lower, upper)
+	}
+	for j, v := range quantiles {
+		if !(v > lower && v < upper) {
+			return 0, inputErr(fmt.Sprintf("quantiles[%d]", j), RuleValueInBounds, "%v not inside (%v, %v)", v, lower, upper)
+		}
+	}
+	return information(quantiles, binProbs(probs), lower, upper), nil
+}
+
+func information(q, binP []float64, lo, hi float64) float64 {
+	width := hi - lo
+	sum := 0.0
+	prev := lo
+	for j, p := range binP {
+		next := hi
+		if j < len(q) {
+			next = q[j]
+		}
+		sum += p * math.Log(p*width/(next-prev))
+		prev = next
+	}
+	return sum
+}
+
+// PiecewiseUniform is a distribution with a piecewise-linear CDF through
+// the knots (X[k], F[k]): uniform density between consecutive knots. An
+// expert's minimal-information distribution given quantiles is one (Cooke
+// 1991, §12.4), and so is any linear pool of them on one range.
+type PiecewiseUniform struct {
+	X []float64 `json:"x"` // knots, strictly increasing
+	F []float64 `json:"f"` // CDF at the knots: F[0] = 0 ≤ … ≤ F[last] = 1
+}
+
+// CDF is P(X ≤ x), linear between knots.
+func (d PiecewiseUniform) CDF(x float64) float64 {
+	n := len(d.X)
+	switch {
+	case n == 0 || math.IsNaN(x):
+		return math.NaN()
+	case x <= d.X[0]:
+		return 0
+	case x >= d.X[n-1]:
+		return 1
+	}
+	k := sort.SearchFloat64s(d.X, x) // d.X[k-1] < x ≤ d.X[k]
+	t := (x - d.X[k-1]) / (d.X[k] - d.X[k-1])
+	return d.F[k-1] + t*(d.F[k]-d.F[k-1])
+}
+
+// Quantile is the inverse CDF at p in [0, 1], linear between knots; on a
+// flat stretch it returns the stretch's left end.
+func (d PiecewiseUniform) Quantile(p float64) float64 {
+	n := len(d.X)
+	switch {
+	case n == 0 || math.IsNaN(p):
+		return math.NaN()
+	case p <= 0:
+		return d.X[0]
+	case p >= 1:
+		return d.X[n-1]
+	}
+	k := sort.SearchFloat64s(d.F, p) // first knot with F ≥ p
+	if k == 0 {
+		return d.X[0]
+	}
+	if k == n {
+		return d.X[n-1]
+	}
+	dF := d.F[k] - d.F[k-1]
+	if dF <= 0 {
+		return d.X[k-1]
+	}
+	return d.X[k-1] + (p-d.F[k-1])/dF*(d.X[k]-d.X[k-1])
+}
+
+// minimalInformation is the distribution uniform between L*, the quantiles
+// and U*, with CDF 0, probs…, 1 at those points.
+func minimalInformation(q, probs []float64, lo, hi float64) PiecewiseUniform {
+	x := make([]float64, 0, len(q)+2)
+	f := make([]float64, 0, len(q)+2)
+	x = append(append(append(x, lo), q...), hi)
+	f = append(append(append(f, 0), probs...), 1)
+	return PiecewiseUniform{X: x, F: f}
+}
+
+// PoolMinimalInformation is the linear opinion pool, with the given
+// weights, of the experts' minimal-information distributions on one
+// question without a realisation (a target question), e.g. with the
+// weights of ClassicalModel. answers maps each expert to quantiles at
+// probs; the intrinsic range is built from all answers as in
+// ClassicalModel, widened by overshoot (0 means DefaultOvershoot) and cut
+// to bounds when bounds is not nil. Experts missing from weights get
+// weight 0; the weights of the answering experts must not all be zero.
+func PoolMinimalInformation(answers map[string][]float64, probs []float64, weights map[string]float64, bounds *[2]float64, overshoot float64) (PiecewiseUniform, error) {
+	if len(answers) == 0 {
+		return PiecewiseUniform{}, inputErr("answers", RuleCount, "need at least 1 expert, got 0")
+	}
+	names := make([]string, 0, len(answers))
+	for e := range answers {
+		names = append(names, e)
+	}
+	sort.Strings(names)
+	const target = "target"
+	as := make([]SeedAssessment, len(names))
+	for i, e := range names {
+		as[i] = SeedAssessment{Expert: e, Question: target, Probs: probs, Quantiles: answers[e]}
+	}
+	var bm map[string][2]float64
+	if bounds != nil {
+		bm = map[string][2]float64{target: *bounds}
+	}
+	// A target has no realisation; the first expert's lowest quantile
+	// stands in, as it lies inside the answers' span and leaves the range
+	// as it is.
+	var stand float64
+	if len(answers[names[0]]) > 0 {
+		stand = answers[names[0]][0]
+	}
+	set, err := newSeedSet(as, map[string]float64{target: stand}, bm, overshoot)
+	if err != nil {
+		return PiecewiseUniform{}, renameAssessments(err, names)
+	}
+	w := make([]float64, len(set.experts))
+	for i, e := range set.experts {
+		v, ok := weights[e]
+		if !ok {
+			continue
+		}
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return PiecewiseUniform{}, inputErr(fmt.Sprintf("weights[%q]", e), RuleFinite, "got %v", v)
+		}
+		if v < 0 {
+			return PiecewiseUniform{}, inputErr(fmt.Sprintf("weights[%q]", e), RuleNonNegative, "got %v", v)
+		}
+		w[i] = v
+	}
+	d, ok := set.poolQuestion(set.questions[0], w)
+	if !ok {
+		return PiecewiseUniform{}, inputErr("weights", RuleWeightsNotAllZero, "no answering expert has weight")
+	}
+	return d, nil
+}
+
+// renameAssessments turns an assessments[i] field back into the expert's
+// name for PoolMinimalInformation's errors.
+func renameAssessments(err error, names []string) error {
+	var ie *InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	for i, e := range names {
+		p := fmt.Sprintf("assessments[%d]", i)
+		if strings.HasPrefix(ie.Field, p) {
+			c := *ie
+			c.Field = fmt.Sprintf("answers[%q]", e) + strings.TrimPrefix(ie.Field, p)
+			return &c
+		}
+	}
+	return err
+}

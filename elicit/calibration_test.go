@@ -1,0 +1,672 @@
+package elicit
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"math"
+	"math/rand/v2"
+	"os"
+	"reflect"
+	"strconv"
+	"strings"
+	"testing"
+
+	"gonum.org/v1/gonum/stat/distuv"
+)
+
+var p5_50_95 = []float64{0.05, 0.5, 0.95}
+
+// pchisqRow is one row of testdata/r/pchisq_reference.csv, written by
+// testdata/r/pchisq_reference.R with R's pchisq (R 4.2.2, header line).
+type pchisqRow struct{ df, x, cdf, upper float64 }
+
+func readPchisq(t *testing.T) []pchisqRow {
+	t.Helper()
+	f, err := os.Open("../testdata/r/pchisq_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.Comment = '#'
+	recs, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	var rows []pchisqRow
+	for _, rec := range recs[1:] {
+		var v [4]float64
+		for i := range v {
+			if v[i], err = strconv.ParseFloat(rec[i], 64); err != nil {
+				t.Fatal(err)
+			}
+		}
+		rows = append(rows, pchisqRow{v[0], v[1], v[2], v[3]})
+	}
+	if len(rows) < 50 {
+		t.Fatalf("only %d reference rows", len(rows))
+	}
+	return rows
+}
+
+// rUpper returns R's pchisq(x, df, lower.tail = FALSE) for a statistic x
+// that the R script also computes.
+func rUpper(t *testing.T, rows []pchisqRow, df, x float64) float64 {
+	t.Helper()
+	for _, r := range rows {
+		if r.df == df && math.Abs(r.x-x) <= 1e-13*x {
+			return r.upper
+		}
+	}
+	t.Fatalf("no R reference for df %v, x %v", df, x)
+	return 0
+}
+
+func relErr(got, want float64) float64 {
+	if want == 0 {
+		return math.Abs(got)
+	}
+	return math.Abs(got-want) / math.Abs(want)
+}
+
+// TestChiSquareAgainstR checks gonum's chi-square CDF and upper tail, which
+// the calibration score is built on, against R's pchisq.
+func TestChiSquareAgainstR(t *testing.T) {
+	for _, r := range readPchisq(t) {
+		d := distuv.ChiSquared{K: r.df}
+		// Tolerance: relative 1e-12 on the tail we use, 1e-13 absolute on
+		// the CDF (common practice, no source).
+		if e := relErr(d.Survival(r.x), r.upper); e > 1e-12 && math.Abs(d.Survival(r.x)-r.upper) > 1e-300 {
+			t.Errorf("df %v x %v: upper tail %v, R %v (rel %g)", r.df, r.x, d.Survival(r.x), r.upper, e)
+		}
+		if math.Abs(d.CDF(r.x)-r.cdf) > 1e-13 {
+			t.Errorf("df %v x %v: CDF %v, R %v", r.df, r.x, d.CDF(r.x), r.cdf)
+		}
+	}
+}
+
+// handSeeds is the hand-worked case: two experts give the same quantiles
+// on four questions, A = (2, 5, 8) and B = (4, 5, 6) at 5/50/95, with
+// realisations 3, 4.5, 5.5 and 5.8 (invented numbers).
+func handSeeds() ([]SeedAssessment, map[string]float64) {
+	real := map[string]float64{"q1": 3, "q2": 4.5, "q3": 5.5, "q4": 5.8}
+	var as []SeedAssessment
+	for _, q := range []string{"q1", "q2", "q3", "q4"} {
+		as = append(as,
+			SeedAssessment{Expert: "A", Question: q, Probs: p5_50_95, Quantiles: []float64{2, 5, 8}},
+			SeedAssessment{Expert: "B", Question: q, Probs: p5_50_95, Quantiles: []float64{4, 5, 6}})
+	}
+	return as, real
+}
+
+// TestClassicalModelByHand works the classical model by hand.
+//
+// Bins (≤q05, (q05,q50], (q50,q95], >q95) have p = (0.05, 0.45, 0.45, 0.05).
+// Realisations 3, 4.5, 5.5, 5.8:
+//
+//	A (2,5,8): bins 1, 1, 2, 2 → s = (0, 0.5, 0.5, 0)
+//	  I(s,p) = 0.5 ln(0.5/0.45) + 0.5 ln(0.5/0.45) = ln(1/0.9) = 0.1053605
+//	  2·N·I = 8 ln(1/0.9) = 0.8428841;  C_A = 1 − F_χ²(0.8428841; 3)
+//	B (4,5,6): bins 0, 1, 2, 2 → s = (0.25, 0.25, 0.5, 0)
+//	  I = 0.25 ln 5 + 0.25 ln(0.25/0.45) + 0.5 ln(0.5/0.45)
+//	    = 0.4023595 − 0.1469467 + 0.0526803 = 0.3080931
+//	  2·N·I = 2.4647446;  C_B = 1 − F_χ²(2.4647446; 3)
+//
+// F_χ² is taken from R's pchisq (testdata/r/pchisq_reference.csv).
+//
+// Intrinsic range, the same on every question: L = min(2, 4, x) = 2,
+// U = max(8, 6, x) = 8, widened by 0.1·6 = 0.6 → [1.4, 8.6], width 7.2.
+//
+//	I_A = 0.05 ln(0.05·7.2/0.6)·2 + 0.45 ln(0.45·7.2/3)·2
+//	    = 0.1 ln 0.6 + 0.9 ln 1.08 = −0.05108256 + 0.06926494 = 0.01818237
+//	I_B = 0.1 ln(0.05·7.2/2.6) + 0.9 ln(0.45·7.2/1)
+//	    = 0.1 ln(9/65) + 0.9 ln 3.24 = −0.19771627 + 1.05801600 = 0.86029973
+//
+// With α = 0 the weights are C·I / (C_A·I_A + C_B·I_B).
+func TestClassicalModelByHand(t *testing.T) {
+	ref := readPchisq(t)
+	cA := rUpper(t, ref, 3, 8*math.Log(1/0.9))
+	cB := rUpper(t, ref, 3, 8*(0.25*math.Log(0.25/0.05)+0.25*math.Log(0.25/0.45)+0.5*math.Log(0.5/0.45)))
+	const iA, iB = 0.01818237, 0.86029973 // by hand, 8 decimals
+
+	as, real := handSeeds()
+	zero := 0.0
+	s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := s.Experts[0], s.Experts[1]
+	if a.Expert != "A" || b.Expert != "B" || a.N != 4 || b.N != 4 {
+		t.Fatalf("experts %+v", s.Experts)
+	}
+	for _, c := range []struct {
+		name      string
+		got, want float64
+		tol       float64
+	}{
+		{"C_A", a.Calibration, cA, 1e-12},
+		{"C_B", b.Calibration, cB, 1e-12},
+		{"I_A", a.Information, iA, 1e-6},
+		{"I_B", b.Information, iB, 1e-7},
+		{"w_A", a.Weight, cA * iA / (cA*iA + cB*iB), 1e-6},
+		{"w_B", b.Weight, cB * iB / (cA*iA + cB*iB), 1e-6},
+	} {
+		if relErr(c.got, c.want) > c.tol {
+			t.Errorf("%s = %.10g, want %.10g", c.name, c.got, c.want)
+		}
+	}
+	for _, q := range s.Questions {
+		if math.Abs(q.Lower-1.4) > 1e-12 || math.Abs(q.Upper-8.6) > 1e-12 {
+			t.Errorf("%s: intrinsic range [%v, %v], want [1.4, 8.6]", q.Question, q.Lower, q.Upper)
+		}
+	}
+
+	// The same scores through the exported one-question functions.
+	if got, _ := CalibrationScore([]int{1, 1, 2, 0}, p5_50_95); relErr(got, cB) > 1e-12 {
+		t.Errorf("CalibrationScore = %v, want %v", got, cB)
+	}
+	if got, _ := InformationScore([]float64{2, 5, 8}, p5_50_95, 1.4, 8.6); math.Abs(got-iA) > 1e-8 {
+		t.Errorf("InformationScore = %v, want %v", got, iA)
+	}
+	// Widths 2, 3, 3, 2 on [0, 10]: I = 0.1 ln(0.05/0.2) + 0.9 ln(0.45/0.3)
+	// = −0.1386294 + 0.3649186 = 0.2262892 (by hand).
+	if got, _ := InformationScore([]float64{2, 5, 8}, p5_50_95, 0, 10); math.Abs(got-0.2262892) > 1e-7 {
+		t.Errorf("InformationScore on [0, 10] = %v, want 0.2262892", got)
+	}
+}
+
+// seedsWithBins gives expert "E" quantiles (10, 20, 30) at probs and, per
+// question, a realisation in the given bin, plus a wide expert "W" that
+// fixes the intrinsic range.
+func seedsWithBins(probs []float64, bins []int) ([]SeedAssessment, map[string]float64) {
+	q := make([]float64, len(probs))
+	for i := range q {
+		q[i] = 10 * float64(i+1)
+	}
+	real := map[string]float64{}
+	var as []SeedAssessment
+	for i, b := range bins {
+		name := fmt.Sprintf("s%02d", i)
+		real[name] = 5 + 10*float64(b) // in bin b of E's quantiles
+		w := make([]float64, len(probs))
+		for j := range w {
+			w[j] = -100 + 200*float64(j)/float64(len(w)-1)
+		}
+		as = append(as,
+			SeedAssessment{Expert: "E", Question: name, Probs: probs, Quantiles: q},
+			SeedAssessment{Expert: "W", Question: name, Probs: probs, Quantiles: w})
+	}
+	return as, real
+}
+
+func expertScore(t *testing.T, s Scores, name string) ExpertScore {
+	t.Helper()
+	for _, e := range s.Experts {
+		if e.Expert == name {
+			return e
+		}
+	}
+	t.Fatalf("no expert %q", name)
+	return ExpertScore{}
+}
+
+func TestCalibrationProperties(t *testing.T) {
+	zero := 0.0
+	for _, c := range []struct {
+		name  string
+		probs []float64
+		bins  []int
+		check func(c float64) bool
+		want  string
+	}{
+		// s = p exactly: I(s, p) = 0, so C = 1 − F(0) = 1.
+		{"quartiles, two per bin", []float64{0.25, 0.5, 0.75}, []int{0, 0, 1, 1, 2, 2, 3, 3}, func(c float64) bool { return c == 1 }, "= 1"},
+		{"5/50/95, 1+9+9+1 of 20", p5_50_95, append(append(append([]int{0}, rep(1, 9)...), rep(2, 9)...), 3), func(c float64) bool { return c == 1 }, "= 1"},
+		{"tertiles, one per bin", []float64{1.0 / 3, 2.0 / 3}, []int{0, 1, 2}, func(c float64) bool { return math.Abs(c-1) < 1e-12 }, "≈ 1"},
+		// Every realisation outside the outer quantiles on 10 questions.
+		{"all above q95", p5_50_95, rep(3, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"all below q05", p5_50_95, rep(0, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"half below, half above", p5_50_95, append(rep(0, 5), rep(3, 5)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"all beyond q10/q90", []float64{0.1, 0.5, 0.9}, append(rep(0, 3), rep(3, 7)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+	} {
+		as, real := seedsWithBins(c.probs, c.bins)
+		s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if got := expertScore(t, s, "E").Calibration; !c.check(got) {
+			t.Errorf("%s: calibration %v, want %s", c.name, got, c.want)
+		}
+	}
+}
+
+func rep(v, n int) []int {
+	out := make([]int, n)
+	for i := range out {
+		out[i] = v
+	}
+	return out
+}
+
+// TestInformationNarrower: the narrower an expert's quantiles about the
+// same median, on a range fixed by a wide expert, the larger the score.
+func TestInformationNarrower(t *testing.T) {
+	prev := -1.0
+	for _, half := range []float64{40, 20, 10, 5, 1, 0.1} {
+		as := []SeedAssessment{
+			{Expert: "N", Question: "q", Probs: p5_50_95, Quantiles: []float64{50 - half, 50, 50 + half}},
+			{Expert: "W", Question: "q", Probs: p5_50_95, Quantiles: []float64{0, 50, 100}},
+		}
+		s, err := ClassicalModel(as, map[string]float64{"q": 50}, nil, ModelOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := expertScore(t, s, "N").Information
+		if !(got > prev) {
+			t.Errorf("half-width %v: information %v not above %v", half, got, prev)
+		}
+		prev = got
+	}
+}
+
+// randomSeeds is an invented panel: expert e has a bias and a spread, and
+// its quantiles at probs are those of a normal around the truth.
+func randomSeeds(rng *rand.Rand, experts, questions int, probs []float64) ([]SeedAssessment, map[string]float64) {
+	real := map[string]float64{}
+	var as []SeedAssessment
+	bias := make([]float64, experts)
+	spread := make([]float64, experts)
+	for e := range bias {
+		bias[e] = rng.NormFloat64() * 0.7
+		spread[e] = 0.3 + 2*rng.Float64()
+	}
+	for q := 0; q < questions; q++ {
+		name := fmt.Sprintf("seed%02d", q)
+		x := 10 * rng.Float64()
+		real[name] = x
+		for e := 0; e < experts; e++ {
+			c := x + bias[e] + 0.5*rng.NormFloat64()
+			qs := make([]float64, len(probs))
+			for i, p := range probs {
+				qs[i] = c + spread[e]*distuv.UnitNormal.Quantile(p)
+			}
+			as = append(as, SeedAssessment{Expert: fmt.Sprintf("expert%02d", e), Question: name, Probs: probs, Quantiles: qs})
+		}
+	}
+	return as, real
+}
+
+func TestClassicalModelOrderInvariant(t *testing.T) {
+	rng := rand.New(rand.NewPCG(1, 2))
+	as, real := randomSeeds(rng, 6, 8, p5_50_95)
+	want, err := ClassicalModel(as, real, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < 5; i++ {
+		shuffled := append([]SeedAssessment(nil), as...)
+		rng.Shuffle(len(shuffled), func(i, j int) { shuffled[i], shuffled[j] = shuffled[j], shuffled[i] })
+		got, err := ClassicalModel(shuffled, real, nil, ModelOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !reflect.DeepEqual(got, want) {
+			t.Fatalf("shuffle %d changed the result:\n%+v\n%+v", i, got.Experts, want.Experts)
+		}
+	}
+}
+
+// TestAlphaOptimisation checks the chosen α against a brute-force search
+// over a fine grid of fixed cut-offs.
+func TestAlphaOptimisation(t *testing.T) {
+	for seed := uint64(1); seed <= 4; seed++ {
+		rng := rand.New(rand.NewPCG(seed, 7))
+		as, real := randomSeeds(rng, 5, 8, p5_50_95)
+		opt, err := ClassicalModel(as, real, nil, ModelOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		maxCal := 0.0
+		for _, e := range opt.Experts {
+			maxCal = math.Max(maxCal, e.Calibration)
+		}
+		best, bestAlpha := math.Inf(-1), -1.0
+		const steps = 1000
+		for i := 0; i <= steps; i++ {
+			a := maxCal * float64(i) / steps
+			s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &a})
+			if err != nil {
+				t.Fatalf("α = %v: %v", a, err)
+			}
+			if s.Pooled.Combined > best {
+				best, bestAlpha = s.Pooled.Combined, a
+			}
+		}
+		if opt.Pooled.Combined < best*(1-1e-12) {
+			t.Errorf("seed %d: optimised α %v gives DM %v, grid α %v gives %v", seed, opt.Alpha, opt.Pooled.Combined, bestAlpha, best)
+		}
+		// The grid can only miss the optimum when two calibration scores
+		// are closer than its step; require it to find the same value.
+		if math.Abs(opt.Pooled.Combined-best) > 1e-12*best && minGap(opt.Experts) > maxCal/steps {
+			t.Errorf("seed %d: optimum %v not found by grid (%v at α %v)", seed, opt.Pooled.Combined, best, bestAlpha)
+		}
+		// The chosen α is a calibration score and the weights are cut there.
+		found := false
+		for _, e := range opt.Experts {
+			found = found || e.Calibration == opt.Alpha
+			if (e.Weight > 0) != (e.Calibration >= opt.Alpha && e.Combined > 0) {
+				t.Errorf("seed %d: expert %s C %v, weight %v at α %v", seed, e.Expert, e.Calibration, e.Weight, opt.Alpha)
+			}
+		}
+		if !found {
+			t.Errorf("seed %d: α %v is no expert's calibration score", seed, opt.Alpha)
+		}
+	}
+}
+
+func minGap(es []ExpertScore) float64 {
+	g := math.Inf(1)
+	for i := range es {
+		for j := range es {
+			if i != j && es[i].Calibration != es[j].Calibration {
+				g = math.Min(g, math.Abs(es[i].Calibration-es[j].Calibration))
+			}
+		}
+	}
+	return g
+}
+
+func TestFixedAlpha(t *testing.T) {
+	rng := rand.New(rand.NewPCG(3, 4))
+	as, real := randomSeeds(rng, 5, 10, p5_50_95)
+	zero := 0.0
+	s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+	if err != nil {
+		t.Fatal(err)
+	}
+	// α = 0: w ∝ C·I for every expert.
+	sum := 0.0
+	for _, e := range s.Experts {
+		sum += e.Calibration * e.Information
+	}
+	total := 0.0
+	for _, e := range s.Experts {
+		if relErr(e.Weight, e.Calibration*e.Information/sum) > 1e-12 {
+			t.Errorf("α = 0: %s weight %v, want %v", e.Expert, e.Weight, e.Calibration*e.Information/sum)
+		}
+		total += e.Weight
+	}
+	if math.Abs(total-1) > 1e-12 || s.Alpha != 0 {
+		t.Errorf("α = 0: weights sum to %v, alpha %v", total, s.Alpha)
+	}
+
+	// α at the median calibration score: experts below get nothing.
+	cals := make([]float64, len(s.Experts))
+	for i, e := range s.Experts {
+		cals[i] = e.Calibration
+	}
+	mid := median(cals)
+	s2, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &mid})
+	if err != nil {
+		t.Fatal(err)
+	}
+	total = 0
+	for _, e := range s2.Experts {
+		if (e.Calibration < mid) != (e.Weight == 0) {
+			t.Errorf("α = %v: %s C %v weight %v", mid, e.Expert, e.Calibration, e.Weight)
+		}
+		total += e.Weight
+	}
+	if math.Abs(total-1) > 1e-12 || s2.Alpha != mid {
+		t.Errorf("α = %v: weights sum to %v, alpha %v", mid, total, s2.Alpha)
+	}
+
+	// α above every calibration score is refused.
+	high := 1.0
+	if _, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &high}); !hasRule(err, RuleAlphaTooHigh) {
+		t.Errorf("α = 1: got %v, want %q", err, RuleAlphaTooHigh)
+	}
+}
+
+func median(v []float64) float64 {
+	c := append([]float64(nil), v...)
+	for i := range c {
+		for j := i + 1; j < len(c); j++ {
+			if c[j] < c[i] {
+				c[i], c[j] = c[j], c[i]
+			}
+		}
+	}
+	return c[len(c)/2]
+}
+
+func hasRule(err error, r Rule) bool {
+	var ie *InputError
+	return errors.As(err, &ie) && ie.Rule == r
+}
+
+// TestDecisionMakerSingleExpert: with one expert the DM is that expert.
+func TestDecisionMakerSingleExpert(t *testing.T) {
+	as, real := handSeeds()
+	var onlyA []SeedAssessment
+	for _, a := range as {
+		if a.Expert == "A" {
+			onlyA = append(onlyA, a)
+		}
+	}
+	s, err := ClassicalModel(onlyA, real, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := s.Experts[0]
+	if e.Weight != 1 || math.Abs(s.Pooled.Calibration-e.Calibration) > 1e-12 || math.Abs(s.Pooled.Information-e.Information) > 1e-12 {
+		t.Errorf("DM %+v, expert %+v", s.Pooled, e)
+	}
+	for _, q := range s.Questions {
+		for i, v := range q.Pooled {
+			if math.Abs(v-[]float64{2, 5, 8}[i]) > 1e-12 {
+				t.Errorf("%s: DM quantiles %v, want [2 5 8]", q.Question, q.Pooled)
+			}
+		}
+	}
+}
+
+// TestDecisionMakerQuantiles checks the pooled quantiles of the hand case
+// with α = 0 against a bisection of Σ wᵢ Fᵢ(x) = p on the experts'
+// piecewise-linear CDFs, written out here independently.
+func TestDecisionMakerQuantiles(t *testing.T) {
+	as, real := handSeeds()
+	zero := 0.0
+	s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+	if err != nil {
+		t.Fatal(err)
+	}
+	wA, wB := s.Experts[0].Weight, s.Experts[1].Weight
+	lin := func(xs, fs []float64, x float64) float64 {
+		for k := 1; k < len(xs); k++ {
+			if x <= xs[k] {
+				return fs[k-1] + (x-xs[k-1])/(xs[k]-xs[k-1])*(fs[k]-fs[k-1])
+			}
+		}
+		return 1
+	}
+	f := []float64{0, 0.05, 0.5, 0.95, 1}
+	cdf := func(x float64) float64 {
+		return wA*lin([]float64{1.4, 2, 5, 8, 8.6}, f, x) + wB*lin([]float64{1.4, 4, 5, 6, 8.6}, f, x)
+	}
+	for i, p := range p5_50_95 {
+		lo, hi := 1.4, 8.6
+		for it := 0; it < 200; it++ {
+			m := (lo + hi) / 2
+			if cdf(m) < p {
+				lo = m
+			} else {
+				hi = m
+			}
+		}
+		if got := s.Questions[0].Pooled[i]; math.Abs(got-lo) > 1e-9 {
+			t.Errorf("DM quantile at %v: %v, bisection %v", p, got, lo)
+		}
+	}
+}
+
+func TestPoolMinimalInformation(t *testing.T) {
+	answers := map[string][]float64{"A": {2, 5, 8}, "B": {4, 5, 6}}
+	d, err := PoolMinimalInformation(answers, p5_50_95, map[string]float64{"A": 1, "B": 0}, nil, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Only A has weight: its own quantiles; range [1.4, 8.6] as by hand.
+	for i, p := range p5_50_95 {
+		if got := d.Quantile(p); math.Abs(got-[]float64{2, 5, 8}[i]) > 1e-12 {
+			t.Errorf("quantile %v = %v", p, got)
+		}
+	}
+	if d.Quantile(0) != 1.4 || math.Abs(d.Quantile(1)-8.6) > 1e-12 {
+		t.Errorf("range [%v, %v], want [1.4, 8.6]", d.Quantile(0), d.Quantile(1))
+	}
+	// Bounds cut the range: [0, 8] → [1.4, 8].
+	d, err = PoolMinimalInformation(answers, p5_50_95, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d.Quantile(1) != 8.5 {
+		t.Errorf("cut upper end %v, want 8.5", d.Quantile(1))
+	}
+	// Equal weights, median: both medians are 5, so the pool's is 5.
+	if got := d.Quantile(0.5); math.Abs(got-5) > 1e-12 {
+		t.Errorf("pooled median %v, want 5", got)
+	}
+	for _, c := range []struct {
+		name    string
+		answers map[string][]float64
+		weights map[string]float64
+		rule    Rule
+	}{
+		{"no weight", answers, map[string]float64{"C": 1}, RuleWeightsNotAllZero},
+		{"negative weight", answers, map[string]float64{"A": -1}, RuleNonNegative},
+		{"NaN weight", answers, map[string]float64{"A": math.NaN()}, RuleFinite},
+		{"non-increasing", map[string][]float64{"A": {2, 2, 8}}, map[string]float64{"A": 1}, RuleValueIncreasing},
+		{"none", nil, nil, RuleCount},
+	} {
+		_, err := PoolMinimalInformation(c.answers, p5_50_95, c.weights, nil, 0)
+		if !hasRule(err, c.rule) {
+			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
+		}
+	}
+}
+
+func TestClassicalModelBadInput(t *testing.T) {
+	good := func() ([]SeedAssessment, map[string]float64, map[string][2]float64) {
+		as, real := handSeeds()
+		return as, real, nil
+	}
+	nan, neg, big := math.NaN(), -0.1, 1.5
+	for _, c := range []struct {
+		name  string
+		edit  func(as []SeedAssessment, real map[string]float64, b *map[string][2]float64, o *ModelOptions) []SeedAssessment
+		field string
+		rule  Rule
+	}{
+		{"empty", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			return nil
+		}, "assessments", RuleCount},
+		{"too few quantiles", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[3].Quantiles = as[3].Quantiles[:2]
+			return as
+		}, "assessments[3].quantiles", RuleLengthMatch},
+		{"non-increasing quantiles", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[2].Quantiles = []float64{2, 5, 5}
+			return as
+		}, "assessments[2].quantiles[2]", RuleValueIncreasing},
+		{"NaN quantile", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[1].Quantiles = []float64{2, nan, 8}
+			return as
+		}, "assessments[1].quantiles[1]", RuleFinite},
+		{"bad probs", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			for i := range as {
+				as[i].Probs = []float64{0.5, 0.05, 0.95}
+			}
+			return as
+		}, "assessments[0].probs[1]", RuleProbIncreasing},
+		{"mixed probs", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[5].Probs = []float64{0.1, 0.5, 0.9}
+			return as
+		}, "assessments[5].probs", RuleSameProbs},
+		{"missing realisation", func(as []SeedAssessment, real map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			delete(real, "q3")
+			return as
+		}, `realisations["q3"]`, RuleRequired},
+		{"Inf realisation", func(as []SeedAssessment, real map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			real["q2"] = math.Inf(1)
+			return as
+		}, `realisations["q2"]`, RuleFinite},
+		{"duplicate", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			return append(as, as[4])
+		}, "assessments[8]", RuleDuplicate},
+		{"no expert name", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[0].Expert = ""
+			return as
+		}, "assessments[0].expert", RuleRequired},
+		{"quantile on bound", func(as []SeedAssessment, _ map[string]float64, b *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			*b = map[string][2]float64{"q1": {2, 10}}
+			return as
+		}, "assessments[0].quantiles[0]", RuleValueInBounds},
+		{"realisation out of bounds", func(as []SeedAssessment, _ map[string]float64, b *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			*b = map[string][2]float64{"q1": {0, 2.5}}
+			return as
+		}, `realisations["q1"]`, RuleInRange},
+		{"bounds reversed", func(as []SeedAssessment, _ map[string]float64, b *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			*b = map[string][2]float64{"q1": {10, 0}}
+			return as
+		}, `bounds["q1"]`, RuleBoundsOrder},
+		{"NaN alpha", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, o *ModelOptions) []SeedAssessment {
+			o.Alpha = &nan
+			return as
+		}, "alpha", RuleFinite},
+		{"alpha above 1", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, o *ModelOptions) []SeedAssessment {
+			o.Alpha = &big
+			return as
+		}, "alpha", RuleUnitInterval},
+		{"negative overshoot", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, o *ModelOptions) []SeedAssessment {
+			o.Overshoot = neg
+			return as
+		}, "overshoot", RuleNonNegative},
+	} {
+		as, real, b := good()
+		var o ModelOptions
+		as = c.edit(as, real, &b, &o)
+		s, err := ClassicalModel(as, real, b, o)
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Rule != c.rule || ie.Field != c.field {
+			t.Errorf("%s: got %v (%+v), want field %s rule %q", c.name, err, s.Experts, c.field, c.rule)
+			continue
+		}
+		if strings.Contains(err.Error(), "NaN") && c.rule != RuleFinite {
+			t.Errorf("%s: message mentions NaN: %v", c.name, err)
+		}
+	}
+}
+
+func TestCalibrationScoreBadInput(t *testing.T) {
+	for _, c := range []struct {
+		name   string
+		counts []int
+		probs  []float64
+		rule   Rule
+	}{
+		{"wrong bins", []int{1, 2, 3}, p5_50_95, RuleCount},
+		{"no realisations", []int{0, 0, 0, 0}, p5_50_95, RuleCount},
+		{"negative", []int{1, -1, 0, 0}, p5_50_95, RuleNonNegative},
+		{"bad probs", []int{1, 1, 1, 1}, []float64{0.5, 0.5, 0.9}, RuleProbIncreasing},
+		{"no probs", []int{1}, nil, RuleCount},
+	} {
+		if _, err := CalibrationScore(c.counts, c.probs); !hasRule(err, c.rule) {
+			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
+		}
+	}
+	if _, err := InformationScore([]float64{2, 5, 8}, p5_50_95, 2, 10); !hasRule(err, RuleValueInBounds) {
+		t.Errorf("quantile on range end: got %v", err)
+	}
+}
