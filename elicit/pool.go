@@ -81,12 +81,11 @@ func poolWeights(dists []ScaledBeta, weights []float64) ([]float64, error) {
 	}
 	var maxW float64
 	for i, x := range weights {
-		f := fmt.Sprintf("weights[%d]", i)
 		if math.IsNaN(x) || math.IsInf(x, 0) {
-			return nil, inputErr(f, RuleFinite, "got %v", x)
+			return nil, inputErr(fmt.Sprintf("weights[%d]", i), RuleFinite, "got %v", x)
 		}
 		if x < 0 {
-			return nil, inputErr(f, RuleNonNegative, "got %v", x)
+			return nil, inputErr(fmt.Sprintf("weights[%d]", i), RuleNonNegative, "got %v", x)
 		}
 		maxW = math.Max(maxW, x)
 	}
@@ -134,20 +133,25 @@ func (p Pool) unitCDF(u float64) float64 {
 	return s
 }
 
-// unitDensity is the unit-scale density f(u) and its derivative
-// f′(u) = Σ wᵢ fᵢ(u) ((αᵢ−1)/u − (βᵢ−1)/(1−u)) at u in (0, 1).
-func (p Pool) unitDensity(u float64) (f, df float64) {
+// unitDensity is the unit-scale density f(u) and its first two
+// derivatives at u in (0, 1): with gᵢ = log fᵢ, gᵢ′ = (αᵢ−1)/u −
+// (βᵢ−1)/(1−u) and gᵢ″ = −(αᵢ−1)/u² − (βᵢ−1)/(1−u)², f′ = Σ wᵢ fᵢ gᵢ′ and
+// f″ = Σ wᵢ fᵢ (gᵢ′² + gᵢ″).
+func (p Pool) unitDensity(u float64) (f, df, d2f float64) {
 	if !(u > 0 && u < 1) {
-		return 0, 0
+		return 0, 0, 0
 	}
 	lu, l1u := math.Log(u), math.Log1p(-u)
 	for i, c := range p.Components {
-		a, b := c.Dist.Alpha, c.Dist.Beta.Beta
-		fi := c.Weight * math.Exp((a-1)*lu+(b-1)*l1u-p.lnB[i])
+		a, b := c.Dist.Alpha-1, c.Dist.Beta.Beta-1
+		fi := c.Weight * math.Exp(a*lu+b*l1u-p.lnB[i])
+		g1 := a/u - b/(1-u)
+		g2 := -a/(u*u) - b/((1-u)*(1-u))
 		f += fi
-		df += fi * ((a-1)/u - (b-1)/(1-u))
+		df += fi * g1
+		d2f += fi * (g1*g1 + g2)
 	}
-	return f, df
+	return f, df, d2f
 }
 
 // PDF is the pooled density Σ wᵢ fᵢ(x); 0 outside [Lower, Upper].
@@ -204,7 +208,7 @@ func (p Pool) Quantile(prob float64) float64 {
 		return p.Upper
 	}
 	lo, hi, mid := p.componentRange(prob)
-	u, _, _ := p.quantileIn(prob, lo, hi, mid)
+	u, _, _, _ := p.quantileIn(prob, lo, hi, mid)
 	return p.Lower + p.width()*u
 }
 
@@ -212,7 +216,7 @@ func (p Pool) Quantile(prob float64) float64 {
 // CheckProbs (finite, strictly inside (0, 1), strictly increasing). The
 // first is bracketed as by Quantile. The increasing order lets every
 // later root be bracketed by the previous root and the upper bound, and
-// started from a second-order Taylor step of the quantile function from
+// started from a third-order Taylor step of the quantile function from
 // the previous root, so most take one or two CDF evaluations.
 func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 	if err := CheckProbs("probs", probs); err != nil {
@@ -230,13 +234,15 @@ func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 		if i > 0 {
 			hi = 1
 		}
-		u, f, df := p.quantileIn(pr, lo, hi, x0)
+		u, f, df, d2f := p.quantileIn(pr, lo, hi, x0)
 		out[i] = p.Lower + p.width()*u
 		lo, x0 = u, u
-		if i+1 < len(probs) && f > 0 && !math.IsInf(f, 0) && !math.IsInf(df, 0) {
-			// Second-order Taylor step of Q: Q′ = 1/f, Q″ = −f′/f³.
+		if i+1 < len(probs) && f > 0 && finite3(f, df, d2f) {
+			// Third-order Taylor step of Q: Q′ = 1/f, Q″ = −f′/f³,
+			// Q‴ = (3f′² − f f″)/f⁵ (derivatives of an inverse function).
 			dp := probs[i+1] - pr
-			x0 = u + dp/f - 0.5*df/(f*f*f)*dp*dp
+			q1, q2, q3 := 1/f, -df/(f*f*f), (3*df*df-f*d2f)/(f*f*f*f*f)
+			x0 = u + dp*(q1+dp*(q2/2+dp*q3/6))
 		}
 	}
 	return out, nil
@@ -284,12 +290,12 @@ const (
 // geometrically when it spans orders of magnitude near 0 (or near 1, in
 // 1−u), so extreme shapes still converge in a few dozen steps. The root
 // is exact to about 1e-14 relative to min(u, 1−u), or to a CDF residual
-// of poolQuantilePTol. It also returns the density and its derivative at
-// the last point evaluated.
-func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df float64) {
+// of poolQuantilePTol. It also returns the density and its first two
+// derivatives at the last point evaluated.
+func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 	if lo >= hi {
-		f, df = p.unitDensity(lo)
-		return lo, f, df
+		f, df, d2f = p.unitDensity(lo)
+		return lo, f, df, d2f
 	}
 	x := x0
 	if !(x > lo && x < hi) {
@@ -298,9 +304,9 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df float64) {
 	prevR := math.Inf(1)
 	for iter := 0; iter < 300; iter++ {
 		r := p.unitCDF(x) - prob
-		f, df = p.unitDensity(x)
+		f, df, d2f = p.unitDensity(x)
 		if math.Abs(r) <= poolQuantilePTol {
-			return x, f, df
+			return x, f, df, d2f
 		}
 		if r < 0 {
 			lo = x
@@ -308,7 +314,7 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df float64) {
 			hi = x
 		}
 		if converged(lo, hi) {
-			return 0.5 * (lo + hi), f, df
+			return 0.5 * (lo + hi), f, df, d2f
 		}
 		next, accept := math.NaN(), poolNewtonAccept
 		if f > 0 && !math.IsInf(f, 0) && math.Abs(r) <= 0.5*prevR {
@@ -321,13 +327,17 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df float64) {
 		if !(next > lo && next < hi) {
 			next = bisect(lo, hi)
 		} else if math.Abs(next-x) <= accept*math.Min(next, 1-next) {
-			return next, f, df
+			return next, f, df, d2f
 		}
 		prevR = math.Abs(r)
 		x = next
 	}
-	f, df = p.unitDensity(x)
-	return x, f, df
+	f, df, d2f = p.unitDensity(x)
+	return x, f, df, d2f
+}
+
+func finite3(a, b, c float64) bool {
+	return !math.IsInf(a, 0) && !math.IsInf(b, 0) && !math.IsInf(c, 0) && !math.IsNaN(a+b+c)
 }
 
 // converged reports whether a < b are equal to poolQuantileXTol relative
