@@ -40,6 +40,12 @@ type Record struct {
 	Revisions []RecordRevision `json:"revisions"`
 	Weights   Weights          `json:"weights"`
 	Events    []Event          `json:"events"`
+	// Performance is the scoring of the panel on the calibration questions
+	// by Cooke's classical model (record_scores.go), present once every
+	// calibration question's true value is revealed; PerformanceNote says
+	// why it is absent when there are calibration questions.
+	Performance     *Performance `json:"performance,omitempty"`
+	PerformanceNote string       `json:"performance_note,omitempty"`
 }
 
 // RecordQuestion is a question with its current state: each expert's
@@ -237,6 +243,7 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 		}
 		r.Questions = append(r.Questions, rq)
 	}
+	r.Performance, r.PerformanceNote = recordPerformance(src)
 	return r, nil
 }
 

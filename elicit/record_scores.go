@@ -1,0 +1,611 @@
+package elicit
+
+import (
+	"errors"
+	"fmt"
+	"math"
+	"sort"
+	"strconv"
+)
+
+// CalibrationSet is the classical model's input drawn from one workshop's
+// stored state: every active expert's current (latest) answer to each
+// calibration question that can be scored. A question can be scored when
+// it asks for quantiles at the set's probabilities and its true value is
+// known; the set's probabilities are those asked by the most calibration
+// questions (the earliest such question breaks a tie).
+type CalibrationSet struct {
+	Probs []float64
+	// Questions are the scored calibration questions in workshop order.
+	Questions []Question
+	// Pending are quantile calibration questions at Probs that still lack
+	// a true value (or, when only revealed values count, a revealed one).
+	Pending []Question
+	// Skipped are calibration questions that cannot be scored, with why.
+	Skipped []SkippedQuestion
+	// Answered lists, per calibration question ID, the active experts with
+	// a current answer, in roster order.
+	Answered map[int64][]Expert
+	// Experts are the active experts, in roster order.
+	Experts []Expert
+
+	Assessments  []SeedAssessment
+	Realisations map[string]float64
+	Bounds       map[string][2]float64
+}
+
+// SkippedQuestion is a calibration question left out of the scoring.
+type SkippedQuestion struct {
+	Question Question `json:"-"`
+	ID       int64    `json:"question_id"`
+	Reason   string   `json:"reason"`
+}
+
+// Ready reports whether the set can be scored: some question is scored,
+// none is pending, and someone answered.
+func (c CalibrationSet) Ready() bool {
+	return len(c.Questions) > 0 && len(c.Pending) == 0 && len(c.Assessments) > 0
+}
+
+// SeedExpertKey and SeedQuestionKey name an expert and a question in the
+// classical model's input, which identifies both by string.
+func SeedExpertKey(id int64) string   { return "e" + strconv.FormatInt(id, 10) }
+func SeedQuestionKey(id int64) string { return "q" + strconv.FormatInt(id, 10) }
+
+// latestRevisions maps (question, expert) to the expert's current
+// revision: the last one in revisions, which are oldest first.
+func latestRevisions(revisions []Revision) map[[2]int64]Revision {
+	m := make(map[[2]int64]Revision, len(revisions))
+	for _, rv := range revisions {
+		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
+	}
+	return m
+}
+
+// NewCalibrationSet gathers the classical model's input from a workshop's
+// questions, experts and revisions (oldest first). Revoked experts are left
+// out, as they are from the pool. With revealedOnly, a true value counts
+// only once revealed, so a record never scores against a hidden truth.
+func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revision, revealedOnly bool) CalibrationSet {
+	set := CalibrationSet{Answered: map[int64][]Expert{}, Realisations: map[string]float64{}, Bounds: map[string][2]float64{}}
+	for _, e := range experts {
+		if !e.Revoked {
+			set.Experts = append(set.Experts, e)
+		}
+	}
+	qs := append([]Question(nil), questions...)
+	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
+	set.Probs = commonProbs(qs)
+	latest := latestRevisions(revisions)
+	for _, q := range qs {
+		if !q.Calibration {
+			continue
+		}
+		for _, e := range set.Experts {
+			if _, ok := latest[[2]int64{q.ID, e.ID}]; ok {
+				set.Answered[q.ID] = append(set.Answered[q.ID], e)
+			}
+		}
+		switch {
+		case q.Format != FormatQuantiles:
+			set.skip(q, "asked as "+formatName(q.Format)+"; the classical model scores answers given as quantiles")
+			continue
+		case !sameFloats(q.Probs, set.Probs):
+			set.skip(q, "asked at "+probsText(q.Probs)+"; the scored questions ask at "+probsText(set.Probs))
+			continue
+		case q.TrueValue == nil || (revealedOnly && !q.Revealed):
+			set.Pending = append(set.Pending, q)
+			continue
+		case len(set.Answered[q.ID]) == 0:
+			set.skip(q, "no active expert has answered it")
+			continue
+		}
+		key := SeedQuestionKey(q.ID)
+		set.Questions = append(set.Questions, q)
+		set.Realisations[key] = *q.TrueValue
+		set.Bounds[key] = [2]float64{q.Lower, q.Upper}
+		for _, e := range set.Answered[q.ID] {
+			rv := latest[[2]int64{q.ID, e.ID}]
+			set.Assessments = append(set.Assessments, SeedAssessment{
+				Expert: SeedExpertKey(e.ID), Question: key,
+				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
+			})
+		}
+	}
+	return set
+}
+
+func (c *CalibrationSet) skip(q Question, why string) {
+	c.Skipped = append(c.Skipped, SkippedQuestion{Question: q, ID: q.ID, Reason: why})
+}
+
+// commonProbs is the probability set asked by the most quantile
+// calibration questions; qs is in workshop order, so the earliest wins a
+// tie. It is nil when there is no such question.
+func commonProbs(qs []Question) []float64 {
+	var best []float64
+	bestN := 0
+	for i, q := range qs {
+		if !q.Calibration || q.Format != FormatQuantiles {
+			continue
+		}
+		n := 0
+		for _, o := range qs[i:] {
+			if o.Calibration && o.Format == FormatQuantiles && sameFloats(o.Probs, q.Probs) {
+				n++
+			}
+		}
+		if n > bestN {
+			best, bestN = q.Probs, n
+		}
+	}
+	return best
+}
+
+func formatName(f AnswerFormat) string {
+	switch f {
+	case FormatInterval:
+		return "a four-value interval"
+	case FormatChips:
+		return "chips in bins"
+	}
+	return string(f)
+}
+
+func probsText(ps []float64) string {
+	s := ""
+	for i, p := range ps {
+		if i > 0 {
+			s += ", "
+		}
+		s += strconv.FormatFloat(100*p, 'g', 4, 64) + "%"
+	}
+	return s
+}
+
+// Performance is the record's account of performance weighting by Cooke's
+// classical model (see ClassicalModel): each expert's scores and weight on
+// the calibration questions, the cut-off α, the pooled decision maker's
+// scores and the robustness of the weights.
+type Performance struct {
+	// Alpha is the calibration cut-off; AlphaRule says whether it was
+	// chosen to maximise the decision maker's combined score
+	// ("optimised") or set by the facilitator ("fixed").
+	Alpha     float64   `json:"alpha"`
+	AlphaRule string    `json:"alpha_rule"`
+	Probs     []float64 `json:"probs"`
+	// Questions are the IDs of the scored calibration questions.
+	Questions []int64             `json:"calibration_questions"`
+	Skipped   []SkippedQuestion   `json:"skipped"`
+	Experts   []PerformanceExpert `json:"experts"`
+	Pooled    PooledScore         `json:"pooled"`
+	// InForce reports whether the workshop's current pool weights are
+	// these performance weights.
+	InForce bool `json:"in_force"`
+	// Robustness is set in a record (see PerformanceRobustness).
+	Robustness *Robustness `json:"robustness,omitempty"`
+}
+
+// The rules by which a cut-off was chosen.
+const (
+	AlphaOptimised = "optimised"
+	AlphaFixed     = "fixed"
+)
+
+// PerformanceExpert is one active expert's scores and weight. An expert
+// who answered no scored question has Answered 0 and weight 0.
+type PerformanceExpert struct {
+	ExpertID    int64   `json:"expert_id"`
+	Name        string  `json:"name"`
+	Answered    int     `json:"answered"`
+	Calibration float64 `json:"calibration"`
+	Information float64 `json:"information"`
+	Combined    float64 `json:"combined"`
+	Weight      float64 `json:"weight"`
+}
+
+// ScorePerformance runs ClassicalModel on set with the cut-off alpha (nil:
+// optimised) and returns the scores by expert. The set must be Ready.
+func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
+	if !set.Ready() {
+		return Performance{}, inputErr("calibration_questions", RuleRequired,
+			"scoring needs answered calibration questions, each with its true value")
+	}
+	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha})
+	if err != nil {
+		return Performance{}, err
+	}
+	p := Performance{Alpha: sc.Alpha, AlphaRule: AlphaOptimised, Probs: set.Probs, Skipped: set.Skipped,
+		Questions: make([]int64, len(set.Questions)), Pooled: sc.Pooled}
+	if alpha != nil {
+		p.AlphaRule = AlphaFixed
+	}
+	if p.Skipped == nil {
+		p.Skipped = []SkippedQuestion{}
+	}
+	for i, q := range set.Questions {
+		p.Questions[i] = q.ID
+	}
+	byKey := map[string]ExpertScore{}
+	for _, es := range sc.Experts {
+		byKey[es.Expert] = es
+	}
+	for _, e := range set.Experts {
+		es := byKey[SeedExpertKey(e.ID)]
+		p.Experts = append(p.Experts, PerformanceExpert{
+			ExpertID: e.ID, Name: e.Name, Answered: es.N,
+			Calibration: es.Calibration, Information: es.Information, Combined: es.Combined, Weight: es.Weight,
+		})
+	}
+	return p, nil
+}
+
+// WeightsByExpert are the performance weights by expert ID, for
+// Weights.ByExpert and for pools.
+func (p Performance) WeightsByExpert() map[int64]float64 {
+	m := make(map[int64]float64, len(p.Experts))
+	for _, e := range p.Experts {
+		m[e.ExpertID] = e.Weight
+	}
+	return m
+}
+
+// matches reports whether saved weights w, normalised over p's experts,
+// equal p's weights to 1e-9.
+func (p Performance) matches(w Weights) bool {
+	if w.Scheme != WeightsPerformance {
+		return false
+	}
+	total := 0.0
+	for _, e := range p.Experts {
+		total += w.ByExpert[e.ExpertID]
+	}
+	if !(total > 0) {
+		return false
+	}
+	for _, e := range p.Experts {
+		if math.Abs(w.ByExpert[e.ExpertID]/total-e.Weight) > 1e-9 {
+			return false
+		}
+	}
+	return true
+}
+
+// PerformanceInForce scores set and, when the workshop's weights w are
+// performance weights, finds the cut-off that reproduces them: weights
+// change only where α passes an expert's calibration score, so the
+// candidates are those scores. Without such weights, or when the answers
+// have changed since they were set, the cut-off is the optimised one and
+// InForce is false.
+func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
+	opt, err := ScorePerformance(set, nil)
+	if err != nil {
+		return Performance{}, err
+	}
+	if w.Scheme != WeightsPerformance {
+		return opt, nil
+	}
+	if opt.matches(w) {
+		opt.InForce = true
+		return opt, nil
+	}
+	var cands []float64
+	for _, e := range opt.Experts {
+		if e.Combined > 0 {
+			cands = append(cands, e.Calibration)
+		}
+	}
+	sort.Float64s(cands)
+	for _, c := range cands {
+		c := c
+		p, err := ScorePerformance(set, &c)
+		if err == nil && p.matches(w) {
+			p.InForce = true
+			return p, nil
+		}
+	}
+	return opt, nil
+}
+
+// PoolSummary is a linear opinion pool's weights, mean, SD and 5/50/95
+// percentiles.
+type PoolSummary struct {
+	Weights     []ExpertWeight `json:"weights"` // normalised over the pooled experts
+	Mean        float64        `json:"mean"`
+	SD          float64        `json:"sd"`
+	Percentiles Percentiles    `json:"percentiles"`
+}
+
+// PoolComparison sets a target question's equal-weight pool beside its
+// performance-weight pool, both LinearPool over the active experts'
+// current fitted Betas.
+type PoolComparison struct {
+	Question         Question     `json:"-"`
+	QuestionID       int64        `json:"question_id"`
+	Equal            *PoolSummary `json:"equal,omitempty"`
+	EqualError       string       `json:"equal_error,omitempty"`
+	Performance      *PoolSummary `json:"performance,omitempty"`
+	PerformanceError string       `json:"performance_error,omitempty"`
+}
+
+// targetFits are the active experts' current fitted Betas on one target
+// question.
+type targetFits struct {
+	q     Question
+	dists []ScaledBeta
+	ids   []int64
+}
+
+// fitTargets fits every active expert's current answer to each target
+// (non-calibration) question, in workshop order.
+func fitTargets(questions []Question, experts []Expert, revisions []Revision) []targetFits {
+	latest := latestRevisions(revisions)
+	qs := append([]Question(nil), questions...)
+	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
+	var out []targetFits
+	for _, q := range qs {
+		if q.Calibration {
+			continue
+		}
+		t := targetFits{q: q}
+		for _, e := range experts {
+			rv, ok := latest[[2]int64{q.ID, e.ID}]
+			if !ok || e.Revoked {
+				continue
+			}
+			if f, err := q.Fit(rv.Answer); err == nil {
+				t.dists, t.ids = append(t.dists, f.Dist), append(t.ids, e.ID)
+			}
+		}
+		out = append(out, t)
+	}
+	return out
+}
+
+// weightsFor are w's weights for t's experts (equal when w is nil).
+func (t targetFits) weightsFor(w map[int64]float64) []float64 {
+	out := make([]float64, len(t.ids))
+	for i, id := range t.ids {
+		if w == nil {
+			out[i] = 1
+		} else {
+			out[i] = w[id]
+		}
+	}
+	return out
+}
+
+const noTargetFits = "no active expert has a fitted judgement on this question"
+
+// ComparePools builds a PoolComparison for every target (non-calibration)
+// question, in workshop order, with the performance weights by expert ID.
+func ComparePools(questions []Question, experts []Expert, revisions []Revision, performance map[int64]float64) []PoolComparison {
+	var out []PoolComparison
+	for _, t := range fitTargets(questions, experts, revisions) {
+		c := PoolComparison{Question: t.q, QuestionID: t.q.ID}
+		if len(t.dists) == 0 {
+			c.EqualError, c.PerformanceError = noTargetFits, noTargetFits
+		} else {
+			c.Equal, c.EqualError = summarisePool(t.dists, t.weightsFor(nil), t.ids)
+			c.Performance, c.PerformanceError = summarisePool(t.dists, t.weightsFor(performance), t.ids)
+		}
+		out = append(out, c)
+	}
+	return out
+}
+
+// Robustness says how much the performance-weighted pools on the target
+// questions depend on any one calibration question or any one expert.
+type Robustness struct {
+	Rows []RobustnessRow `json:"rows"`
+	// Largest is the largest shift of any row at each percentile.
+	Largest Percentiles `json:"largest"`
+}
+
+// RobustnessRow is the classical model rerun without one calibration
+// question or one expert. Shift is the largest absolute change, over the
+// target questions, of the performance-weighted pool's 5th, 50th and 95th
+// percentiles from the full panel's; Error says why the rerun failed.
+type RobustnessRow struct {
+	LeftOut string         `json:"left_out"` // "question" or "expert"
+	ID      int64          `json:"id"`
+	Label   string         `json:"label"`
+	Alpha   float64        `json:"alpha"`
+	Weights []ExpertWeight `json:"weights"`
+	Shift   Percentiles    `json:"shift"`
+	Error   string         `json:"error,omitempty"`
+}
+
+// What a robustness row leaves out.
+const (
+	LeftOutQuestion = "question"
+	LeftOutExpert   = "expert"
+)
+
+// PerformanceRobustness reruns ScorePerformance on set without each
+// scored calibration question and then without each scored expert, with
+// the same cut-off rule (alpha nil: optimised again on each rerun), and
+// compares the performance-weighted linear pools (LinearPool) of the
+// current fits on every target question with the full panel's — the
+// leave-one-out checks of the classical model's robustness (Cooke 1991,
+// "Experts in Uncertainty", §12.6; Cooke & Goossens 2008). An expert left
+// out is also left out of the target pools.
+func PerformanceRobustness(set CalibrationSet, questions []Question, experts []Expert, revisions []Revision, alpha *float64) (Robustness, error) {
+	full, err := ScorePerformance(set, alpha)
+	if err != nil {
+		return Robustness{}, err
+	}
+	targets := fitTargets(questions, experts, revisions)
+	base := make([]*Percentiles, len(targets))
+	for i, t := range targets {
+		base[i] = poolPercentiles(t, full.WeightsByExpert(), 0)
+	}
+	var rb Robustness
+	run := func(row RobustnessRow, sub CalibrationSet, without int64) {
+		p, err := ScorePerformance(sub, alpha)
+		if err != nil {
+			row.Error = err.Error()
+			rb.Rows = append(rb.Rows, row)
+			return
+		}
+		row.Alpha = p.Alpha
+		w := p.WeightsByExpert()
+		for _, e := range p.Experts {
+			row.Weights = append(row.Weights, ExpertWeight{ExpertID: e.ExpertID, Weight: e.Weight})
+		}
+		for i, t := range targets {
+			if base[i] == nil {
+				continue
+			}
+			got := poolPercentiles(t, w, without)
+			if got == nil {
+				row.Error = fmt.Sprintf("Q%d: no expert with weight answered it", t.q.Position)
+				continue
+			}
+			row.Shift.P05 = math.Max(row.Shift.P05, math.Abs(got.P05-base[i].P05))
+			row.Shift.P50 = math.Max(row.Shift.P50, math.Abs(got.P50-base[i].P50))
+			row.Shift.P95 = math.Max(row.Shift.P95, math.Abs(got.P95-base[i].P95))
+		}
+		rb.Largest.P05 = math.Max(rb.Largest.P05, row.Shift.P05)
+		rb.Largest.P50 = math.Max(rb.Largest.P50, row.Shift.P50)
+		rb.Largest.P95 = math.Max(rb.Largest.P95, row.Shift.P95)
+		rb.Rows = append(rb.Rows, row)
+	}
+	for _, q := range set.Questions {
+		row := RobustnessRow{LeftOut: LeftOutQuestion, ID: q.ID, Label: fmt.Sprintf("Q%d %s", q.Position, q.Quantity)}
+		if len(set.Questions) < 2 {
+			row.Error = "the only scored calibration question cannot be left out"
+			rb.Rows = append(rb.Rows, row)
+			continue
+		}
+		run(row, set.without(SeedQuestionKey(q.ID), ""), 0)
+	}
+	for _, e := range full.Experts {
+		if e.Answered == 0 {
+			continue
+		}
+		row := RobustnessRow{LeftOut: LeftOutExpert, ID: e.ExpertID, Label: e.Name}
+		sub := set.without("", SeedExpertKey(e.ExpertID))
+		if len(sub.Assessments) == 0 {
+			row.Error = "no other expert answered a calibration question"
+			rb.Rows = append(rb.Rows, row)
+			continue
+		}
+		run(row, sub, e.ExpertID)
+	}
+	return rb, nil
+}
+
+// without is the set less one question's or one expert's assessments
+// (by their model keys; "" leaves nothing out of that kind).
+func (c CalibrationSet) without(question, expert string) CalibrationSet {
+	out := c
+	out.Assessments = nil
+	for _, a := range c.Assessments {
+		if a.Question != question && a.Expert != expert {
+			out.Assessments = append(out.Assessments, a)
+		}
+	}
+	out.Questions = nil
+	for _, q := range c.Questions {
+		if SeedQuestionKey(q.ID) != question {
+			out.Questions = append(out.Questions, q)
+		}
+	}
+	if expert != "" {
+		out.Experts = nil
+		for _, e := range c.Experts {
+			if SeedExpertKey(e.ID) != expert {
+				out.Experts = append(out.Experts, e)
+			}
+		}
+	}
+	return out
+}
+
+// poolPercentiles are the 5/50/95 percentiles of t's linear pool with
+// weights w, leaving out expert without; nil when no expert has weight.
+func poolPercentiles(t targetFits, w map[int64]float64, without int64) *Percentiles {
+	var dists []ScaledBeta
+	var ws []float64
+	for i, id := range t.ids {
+		if id != without {
+			dists, ws = append(dists, t.dists[i]), append(ws, w[id])
+		}
+	}
+	if len(dists) == 0 {
+		return nil
+	}
+	pool, err := LinearPool(dists, ws)
+	if err != nil {
+		return nil
+	}
+	qs, err := pool.Quantiles([]float64{0.05, 0.5, 0.95})
+	if err != nil {
+		return nil
+	}
+	return &Percentiles{qs[0], qs[1], qs[2]}
+}
+
+func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {
+	pool, err := LinearPool(dists, weights)
+	var ie *InputError
+	if errors.As(err, &ie) && ie.Rule == RuleWeightsNotAllZero {
+		return nil, "every expert who answered this question has performance weight 0"
+	}
+	if err != nil {
+		return nil, err.Error()
+	}
+	qs, err := pool.Quantiles([]float64{0.05, 0.5, 0.95})
+	if err != nil {
+		return nil, err.Error()
+	}
+	s := &PoolSummary{Mean: pool.Mean(), SD: pool.SD(), Percentiles: Percentiles{qs[0], qs[1], qs[2]}}
+	total := 0.0
+	for _, w := range weights {
+		total += w
+	}
+	for i, id := range ids {
+		s.Weights = append(s.Weights, ExpertWeight{ExpertID: id, Weight: weights[i] / total})
+	}
+	return s, ""
+}
+
+// recordPerformance is the record's performance section: scored only on
+// revealed true values, with the cut-off of the weights in force. note
+// says why there is no section.
+func recordPerformance(src RecordSource) (*Performance, string) {
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	switch {
+	case len(set.Questions) == 0 && len(set.Pending) == 0:
+		if len(set.Skipped) == 0 {
+			return nil, ""
+		}
+		return nil, "no calibration question can be scored: " + skippedText(set.Skipped)
+	case len(set.Pending) > 0:
+		return nil, fmt.Sprintf("scores are shown once every calibration question's true value is revealed (%d not yet)", len(set.Pending))
+	}
+	p, err := PerformanceInForce(set, src.Weights)
+	if err != nil {
+		return nil, "the classical model could not score the panel: " + err.Error()
+	}
+	var alpha *float64
+	if p.AlphaRule == AlphaFixed {
+		alpha = &p.Alpha
+	}
+	if rb, err := PerformanceRobustness(set, src.Questions, src.Experts, src.Revisions, alpha); err == nil {
+		p.Robustness = &rb
+	}
+	return &p, ""
+}
+
+func skippedText(s []SkippedQuestion) string {
+	out := ""
+	for i, q := range s {
+		if i > 0 {
+			out += "; "
+		}
+		out += fmt.Sprintf("Q%d %s", q.Question.Position, q.Reason)
+	}
+	return out
+}

@@ -1,0 +1,390 @@
+package elicit
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"strings"
+	"testing"
+)
+
+// seedWorkshop is an invented workshop on valve wear: three experts (B
+// far too sure of himself), three calibration questions at 5/50/95 with
+// true values 0.30, 0.50 and 0.20, one calibration question in chips and
+// one at quartiles (both left out of the scoring), and one target
+// question. Expert D is revoked and answered everything.
+func seedWorkshop(revealed bool) RecordSource {
+	p := []float64{0.05, 0.5, 0.95}
+	tv := func(v float64) *float64 { return &v }
+	qs := []Question{
+		{ID: 101, WorkshopID: 9, Position: 1, Wording: "Target", Quantity: "worn share", Lower: 0, Upper: 1, Format: FormatQuantiles, Probs: p},
+		{ID: 102, WorkshopID: 9, Position: 2, Wording: "Seed 1", Quantity: "s1", Lower: 0, Upper: 1, Format: FormatQuantiles, Probs: p, Calibration: true, TrueValue: tv(0.30), Revealed: revealed},
+		{ID: 103, WorkshopID: 9, Position: 3, Wording: "Seed 2", Quantity: "s2", Lower: 0, Upper: 1, Format: FormatQuantiles, Probs: p, Calibration: true, TrueValue: tv(0.50), Revealed: revealed},
+		{ID: 104, WorkshopID: 9, Position: 4, Wording: "Seed 3", Quantity: "s3", Lower: 0, Upper: 1, Format: FormatQuantiles, Probs: p, Calibration: true, TrueValue: tv(0.20), Revealed: revealed},
+		{ID: 105, WorkshopID: 9, Position: 5, Wording: "Chips seed", Quantity: "s4", Lower: 0, Upper: 1, Format: FormatChips, BinEdges: []float64{0, 0.3, 0.6, 1}, Chips: 10, Calibration: true, TrueValue: tv(0.4), Revealed: revealed},
+		{ID: 106, WorkshopID: 9, Position: 6, Wording: "Quartile seed", Quantity: "s5", Lower: 0, Upper: 1, Format: FormatQuantiles, Probs: ProbsQuartiles, Calibration: true, TrueValue: tv(0.4), Revealed: revealed},
+	}
+	es := []Expert{
+		{ID: 1, WorkshopID: 9, Name: "A", Created: t0},
+		{ID: 2, WorkshopID: 9, Name: "B", Created: t0},
+		{ID: 3, WorkshopID: 9, Name: "C", Created: t0},
+		{ID: 4, WorkshopID: 9, Name: "D", Revoked: true, Created: t0},
+	}
+	var rs []Revision
+	add := func(q, e int64, v ...float64) {
+		rs = append(rs, Revision{ID: int64(len(rs) + 1), QuestionID: q, ExpertID: e, Round: 1, At: t0, Answer: Answer{Values: v}})
+	}
+	add(102, 1, 0.05, 0.2, 0.4) // superseded below
+	add(102, 1, 0.10, 0.25, 0.50)
+	add(103, 1, 0.30, 0.55, 0.80)
+	add(104, 1, 0.05, 0.15, 0.40)
+	add(102, 2, 0.60, 0.62, 0.64)
+	add(103, 2, 0.10, 0.12, 0.14)
+	add(104, 2, 0.70, 0.72, 0.74)
+	add(102, 3, 0.20, 0.35, 0.60)
+	add(103, 3, 0.20, 0.45, 0.70)
+	add(104, 3, 0.10, 0.25, 0.45)
+	for _, q := range []int64{102, 103, 104} {
+		add(q, 4, 0.01, 0.02, 0.03)
+	}
+	add(106, 1, 0.2, 0.4, 0.6)
+	add(101, 1, 0.05, 0.15, 0.35)
+	add(101, 2, 0.28, 0.30, 0.32)
+	add(101, 3, 0.10, 0.20, 0.40)
+	return RecordSource{
+		Workshop:  Workshop{ID: 9, Title: "Valve wear (invented)", Round: 1, Open: true, Invented: true, Created: t0},
+		Questions: qs, Experts: es, Revisions: rs,
+		Weights: Weights{WorkshopID: 9, Scheme: WeightsEqual, At: t0},
+	}
+}
+
+// chiSq3Survival is P(χ²₃ > x) in closed form for 3 degrees of freedom,
+// erfc(√(x/2)) + √(2x/π)·e^(−x/2) (Abramowitz & Stegun 1964, "Handbook of
+// Mathematical Functions", §26.4, χ² with odd ν), independent of gonum.
+func chiSq3Survival(x float64) float64 {
+	return math.Erfc(math.Sqrt(x/2)) + math.Sqrt(2*x/math.Pi)*math.Exp(-x/2)
+}
+
+func TestCalibrationSetFromWorkshop(t *testing.T) {
+	src := seedWorkshop(false)
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	if !sameFloats(set.Probs, []float64{0.05, 0.5, 0.95}) {
+		t.Fatalf("probs %v, want the 5/50/95 asked by three of four quantile seeds", set.Probs)
+	}
+	if len(set.Questions) != 3 || len(set.Pending) != 0 || !set.Ready() {
+		t.Fatalf("scored %d, pending %d", len(set.Questions), len(set.Pending))
+	}
+	if len(set.Skipped) != 2 || set.Skipped[0].ID != 105 || !strings.Contains(set.Skipped[0].Reason, "chips") ||
+		set.Skipped[1].ID != 106 || !strings.Contains(set.Skipped[1].Reason, "25%, 50%, 75%") {
+		t.Fatalf("skipped %+v", set.Skipped)
+	}
+	if len(set.Assessments) != 9 {
+		t.Fatalf("%d assessments, want 3 experts × 3 seeds (revoked D left out)", len(set.Assessments))
+	}
+	for _, a := range set.Assessments {
+		if a.Expert == SeedExpertKey(1) && a.Question == SeedQuestionKey(102) && !sameFloats(a.Quantiles, []float64{0.10, 0.25, 0.50}) {
+			t.Errorf("A on seed 1 uses %v, not the latest revision", a.Quantiles)
+		}
+		if a.Expert == SeedExpertKey(4) {
+			t.Error("revoked expert scored")
+		}
+	}
+	if n := len(set.Answered[106]); n != 1 {
+		t.Errorf("quartile seed answered by %d, want 1", n)
+	}
+	// Only revealed truths count for a record.
+	hidden := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	if hidden.Ready() || len(hidden.Pending) != 3 {
+		t.Fatalf("unrevealed: ready %v, pending %d", hidden.Ready(), len(hidden.Pending))
+	}
+	if _, err := ScorePerformance(hidden, nil); err == nil {
+		t.Fatal("scored against hidden truths")
+	}
+}
+
+func TestScorePerformanceByHand(t *testing.T) {
+	src := seedWorkshop(true)
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	p, err := ScorePerformance(set, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// Bins (below 5%, 5–50%, 50–95%, above 95%) of the realisations:
+	//   A: 0.30 in (0.25, 0.50], 0.50 in (0.30, 0.55], 0.20 in (0.15, 0.40] → counts 0,1,2,0
+	//   B: 0.30 below 0.60, 0.50 above 0.14, 0.20 below 0.70           → counts 2,0,0,1
+	//   C: 0.30 in (0.20, 0.35], 0.50 in (0.45, 0.70], 0.20 in (0.10, 0.25] → counts 0,2,1,0
+	// with p = (0.05, 0.45, 0.45, 0.05) and N = 3:
+	//   I_A = I_C = ⅓ ln((⅓)/0.45) + ⅔ ln((⅔)/0.45) = −0.100035 + 0.262029 = 0.161994
+	//   I_B = ⅔ ln((⅔)/0.05) + ⅓ ln((⅓)/0.05) = 1.726845 + 0.632373 = 2.359218
+	// and the calibration score is P(χ²₃ > 2·3·I).
+	iA := 1.0/3*math.Log((1.0/3)/0.45) + 2.0/3*math.Log((2.0/3)/0.45)
+	iB := 2.0/3*math.Log((2.0/3)/0.05) + 1.0/3*math.Log((1.0/3)/0.05)
+	if math.Abs(iA-0.161994) > 1e-6 || math.Abs(iB-2.359218) > 1e-6 {
+		t.Fatalf("hand arithmetic: I_A %v, I_B %v", iA, iB)
+	}
+	wantCal := map[int64]float64{1: chiSq3Survival(6 * iA), 2: chiSq3Survival(6 * iB), 3: chiSq3Survival(6 * iA)}
+	// Intrinsic ranges: the smallest and largest outer quantile or
+	// realisation, widened by 10% of the span on each side:
+	//   seed 1: [0.10, 0.64] → [0.046, 0.694]; seed 2: [0.10, 0.80] → [0.03, 0.87];
+	//   seed 3: [0.05, 0.74] → [−0.019, 0.809], cut to the bound 0 → [0, 0.809].
+	ranges := map[int64][2]float64{102: {0.046, 0.694}, 103: {0.03, 0.87}, 104: {0, 0.809}}
+	answers := map[int64]map[int64][]float64{
+		1: {102: {0.10, 0.25, 0.50}, 103: {0.30, 0.55, 0.80}, 104: {0.05, 0.15, 0.40}},
+		2: {102: {0.60, 0.62, 0.64}, 103: {0.10, 0.12, 0.14}, 104: {0.70, 0.72, 0.74}},
+		3: {102: {0.20, 0.35, 0.60}, 103: {0.20, 0.45, 0.70}, 104: {0.10, 0.25, 0.45}},
+	}
+	if len(p.Experts) != 3 {
+		t.Fatalf("%d experts scored, want 3 (revoked D left out)", len(p.Experts))
+	}
+	sum := 0.0
+	for _, e := range p.Experts {
+		if math.Abs(e.Calibration-wantCal[e.ExpertID]) > 1e-9 {
+			t.Errorf("expert %s calibration %v, want %v", e.Name, e.Calibration, wantCal[e.ExpertID])
+		}
+		info := 0.0
+		for q, r := range ranges {
+			v, err := InformationScore(answers[e.ExpertID][q], set.Probs, r[0], r[1])
+			if err != nil {
+				t.Fatal(err)
+			}
+			info += v / 3
+		}
+		if math.Abs(e.Information-info) > 1e-9 || e.Answered != 3 {
+			t.Errorf("expert %s information %v (n %d), want %v", e.Name, e.Information, e.Answered, info)
+		}
+		if math.Abs(e.Combined-e.Calibration*e.Information) > 1e-12 {
+			t.Errorf("expert %s combined %v", e.Name, e.Combined)
+		}
+		sum += e.Weight
+	}
+	if math.Abs(sum-1) > 1e-12 || p.AlphaRule != AlphaOptimised || p.Pooled.N != 3 {
+		t.Fatalf("weights sum %v, rule %s, pooled %+v", sum, p.AlphaRule, p.Pooled)
+	}
+	// α = 0 keeps everyone: weights ∝ calibration × information.
+	zero := 0.0
+	p0, err := ScorePerformance(set, &zero)
+	if err != nil {
+		t.Fatal(err)
+	}
+	total := 0.0
+	for _, e := range p0.Experts {
+		total += e.Combined
+	}
+	for _, e := range p0.Experts {
+		if math.Abs(e.Weight-e.Combined/total) > 1e-12 {
+			t.Errorf("α=0: %s weight %v, want %v", e.Name, e.Weight, e.Combined/total)
+		}
+	}
+	if p0.AlphaRule != AlphaFixed || p0.Alpha != 0 {
+		t.Errorf("α=0 reported as %v (%s)", p0.Alpha, p0.AlphaRule)
+	}
+}
+
+func TestPerformanceInForceFindsTheCutOff(t *testing.T) {
+	src := seedWorkshop(true)
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	opt, err := ScorePerformance(set, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The highest calibration score keeps only A and C.
+	top := 0.0
+	for _, e := range opt.Experts {
+		top = math.Max(top, e.Calibration)
+	}
+	zero := 0.0
+	for _, alpha := range []*float64{nil, &zero, &top} {
+		want, err := ScorePerformance(set, alpha)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w := Weights{WorkshopID: 9, Scheme: WeightsPerformance, ByExpert: map[int64]float64{}}
+		for id, v := range want.WeightsByExpert() {
+			w.ByExpert[id] = 3 * v // stored weights need not be normalised
+		}
+		got, err := PerformanceInForce(set, w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !got.InForce || !sameWeights(got, want) {
+			t.Errorf("α %v: in force %v, weights %v, want %v", want.Alpha, got.InForce, got.WeightsByExpert(), want.WeightsByExpert())
+		}
+	}
+	// Weights of another scheme, or from other answers, are not these.
+	for _, w := range []Weights{
+		{Scheme: WeightsEqual},
+		{Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 1, 2: 1, 3: 5}},
+	} {
+		got, err := PerformanceInForce(set, w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.InForce || got.Alpha != opt.Alpha || got.AlphaRule != AlphaOptimised {
+			t.Errorf("%+v: in force %v, α %v (%s)", w, got.InForce, got.Alpha, got.AlphaRule)
+		}
+	}
+}
+
+func sameWeights(a, b Performance) bool {
+	wa, wb := a.WeightsByExpert(), b.WeightsByExpert()
+	for id, v := range wb {
+		if math.Abs(wa[id]-v) > 1e-12 {
+			return false
+		}
+	}
+	return len(wa) == len(wb)
+}
+
+func TestComparePools(t *testing.T) {
+	src := seedWorkshop(true)
+	perf := map[int64]float64{1: 0.7, 2: 0, 3: 0.3, 4: 1}
+	cs := ComparePools(src.Questions, src.Experts, src.Revisions, perf)
+	if len(cs) != 1 || cs[0].QuestionID != 101 || cs[0].Equal == nil || cs[0].Performance == nil {
+		t.Fatalf("comparisons %+v", cs)
+	}
+	q := src.Questions[0]
+	means := map[int64]float64{}
+	for _, rv := range src.Revisions {
+		if rv.QuestionID == 101 {
+			f, err := q.Fit(rv.Answer)
+			if err != nil {
+				t.Fatal(err)
+			}
+			means[rv.ExpertID] = f.Dist.Mean()
+		}
+	}
+	// A linear pool's mean is the weighted mean of its components' means
+	// (Frühwirth-Schnatter 2006, "Finite Mixture and Markov Switching
+	// Models", §1.2.4); the revoked D is not pooled.
+	eq := (means[1] + means[2] + means[3]) / 3
+	pm := 0.7*means[1] + 0.3*means[3]
+	if math.Abs(cs[0].Equal.Mean-eq) > 1e-12 || math.Abs(cs[0].Performance.Mean-pm) > 1e-12 {
+		t.Fatalf("means %v, %v; want %v, %v", cs[0].Equal.Mean, cs[0].Performance.Mean, eq, pm)
+	}
+	pc := cs[0].Performance.Percentiles
+	if !(pc.P05 < pc.P50 && pc.P50 < pc.P95) || len(cs[0].Performance.Weights) != 3 {
+		t.Fatalf("performance pool %+v", cs[0].Performance)
+	}
+	none := ComparePools(src.Questions, src.Experts, src.Revisions, map[int64]float64{2: 0})
+	if none[0].Performance != nil || !strings.Contains(none[0].PerformanceError, "weight 0") {
+		t.Fatalf("all-zero weights: %+v", none[0])
+	}
+}
+
+func TestRecordCarriesPerformance(t *testing.T) {
+	sch := compileSchema(t)
+	hidden, err := BuildRecord(seedWorkshop(false), t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if hidden.Performance != nil || !strings.Contains(hidden.PerformanceNote, "revealed") {
+		t.Fatalf("unrevealed: performance %v, note %q", hidden.Performance, hidden.PerformanceNote)
+	}
+	if err := sch.Validate(asJSONValue(t, hidden)); err != nil {
+		t.Fatalf("record with a performance note: %v", err)
+	}
+	src := seedWorkshop(true)
+	rec, err := BuildRecord(src, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := ScorePerformance(NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true), nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rec.Performance == nil || rec.PerformanceNote != "" || !sameWeights(*rec.Performance, want) || rec.Performance.Alpha != want.Alpha {
+		t.Fatalf("record performance %+v, want %+v", rec.Performance, want)
+	}
+	if err := sch.Validate(asJSONValue(t, rec)); err != nil {
+		t.Fatalf("record with performance does not match the schema: %v", err)
+	}
+	// The record survives its own strict import.
+	b, err := json.Marshal(rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := ParseRecord(bytes.NewReader(b)); err != nil {
+		t.Fatalf("record with performance does not import: %v", err)
+	}
+}
+
+func TestPerformanceRobustness(t *testing.T) {
+	src := seedWorkshop(true)
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	rb, err := PerformanceRobustness(set, src.Questions, src.Experts, src.Revisions, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rb.Rows) != 6 {
+		t.Fatalf("%d rows, want 3 questions + 3 experts", len(rb.Rows))
+	}
+	target := src.Questions[0]
+	fits := map[int64]ScaledBeta{}
+	for _, rv := range src.Revisions {
+		if rv.QuestionID == target.ID {
+			f, err := target.Fit(rv.Answer)
+			if err != nil {
+				t.Fatal(err)
+			}
+			fits[rv.ExpertID] = f.Dist
+		}
+	}
+	// The pool's percentiles straight from ClassicalModel's weights and
+	// LinearPool, without the code under test.
+	percentiles := func(as []SeedAssessment, skipExpert int64) Percentiles {
+		sc, err := ClassicalModel(as, set.Realisations, set.Bounds, ModelOptions{})
+		if err != nil {
+			t.Fatal(err)
+		}
+		w := sc.Weights()
+		var ds []ScaledBeta
+		var ws []float64
+		for _, id := range []int64{1, 2, 3} {
+			if id != skipExpert {
+				ds, ws = append(ds, fits[id]), append(ws, w[SeedExpertKey(id)])
+			}
+		}
+		pool, err := LinearPool(ds, ws)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return Percentiles{pool.Quantile(0.05), pool.Quantile(0.5), pool.Quantile(0.95)}
+	}
+	full := percentiles(set.Assessments, 0)
+	largest := Percentiles{}
+	for _, row := range rb.Rows {
+		var as []SeedAssessment
+		var skip int64
+		for _, a := range set.Assessments {
+			if (row.LeftOut == LeftOutQuestion && a.Question == SeedQuestionKey(row.ID)) ||
+				(row.LeftOut == LeftOutExpert && a.Expert == SeedExpertKey(row.ID)) {
+				continue
+			}
+			as = append(as, a)
+		}
+		if row.LeftOut == LeftOutExpert {
+			skip = row.ID
+		}
+		if row.Error != "" {
+			t.Errorf("%s %d: %s", row.LeftOut, row.ID, row.Error)
+			continue
+		}
+		got := percentiles(as, skip)
+		want := Percentiles{math.Abs(got.P05 - full.P05), math.Abs(got.P50 - full.P50), math.Abs(got.P95 - full.P95)}
+		const tol = 1e-9
+		if math.Abs(row.Shift.P05-want.P05) > tol || math.Abs(row.Shift.P50-want.P50) > tol || math.Abs(row.Shift.P95-want.P95) > tol {
+			t.Errorf("%s %d: shift %+v, want %+v", row.LeftOut, row.ID, row.Shift, want)
+		}
+		largest.P05, largest.P50, largest.P95 = math.Max(largest.P05, want.P05), math.Max(largest.P50, want.P50), math.Max(largest.P95, want.P95)
+	}
+	if math.Abs(rb.Largest.P50-largest.P50) > 1e-9 || rb.Largest.P50 == 0 {
+		t.Errorf("largest %+v, want %+v (and not zero: leaving out A or C moves the pool)", rb.Largest, largest)
+	}
+	rec, err := BuildRecord(src, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if rec.Performance == nil || rec.Performance.Robustness == nil || len(rec.Performance.Robustness.Rows) != 6 {
+		t.Fatalf("record lacks the robustness table: %+v", rec.Performance)
+	}
+}
