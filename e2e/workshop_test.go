@@ -144,7 +144,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	bo.viewport(phoneWidth, phoneHeight, true)
 	openQuestion(t, bo, linkB, 1)
 	if w := eval[int](bo, "page width", `document.documentElement.scrollWidth`); w > phoneWidth {
-		wide := eval[string](bo, "what is too wide", fmt.Sprintf(`Array.from(document.querySelectorAll("body *")).filter(e => e.getBoundingClientRect().right > %d).slice(0, 5).map(e => e.tagName.toLowerCase() + (e.className && e.className.baseVal === undefined ? "." + e.className : "") + " right=" + Math.round(e.getBoundingClientRect().right)).join("; ")`, phoneWidth))
+		wide := eval[string](bo, "what is too wide", fmt.Sprintf(`Array.from(document.querySelectorAll("body *")).filter(e => e.getBoundingClientRect().right > %d).slice(0, 5).map(e => e.tagName.toLowerCase() + (e.className && e.className.baseVal === undefined ? "." + e.className : "") + (e.closest("section") ? " in section." + e.closest("section").className : "") + " right=" + Math.round(e.getBoundingClientRect().right)).join("; ")`, phoneWidth))
 		t.Errorf("Bo's question page is %d px wide on a %d px phone: it scrolls sideways (widest: %s)", w, phoneWidth, wide)
 	}
 	shots.take(bo, "05-expert-question-phone")
@@ -170,7 +170,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 
 	// Ada revises, seeing the panel without names.
 	openQuestion(t, ada, linkA, 1)
-	ada.sees("round 2 feedback", "Round 2 is open", "What the other experts said")
+	ada.sees("round 2 feedback", "Round 2 is open", "What the other experts said", "You", "Expert 1", "pool")
 	if n := ada.count(`.panel-feedback svg`); n < 1 {
 		t.Errorf("Ada: no panel picture in round 2")
 	}
@@ -211,8 +211,17 @@ func TestWorkshopInBrowser(t *testing.T) {
 	}
 	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2")
 
-	// The export, downloaded with the facilitator's own session.
-	raw := eval[string](fac, "download the JSON export", fmt.Sprintf(`fetch(%q, {credentials: "same-origin"}).then(r => r.ok ? r.text() : Promise.reject(new Error("status " + r.status)))`, wsURL+"export.json"))
+	// The printable report, and the export linked from it, downloaded
+	// with the facilitator's own session.
+	fac.open(wsURL + "report")
+	fac.sees("report", "Pump reliability panel (invented)", rationale, "Ada Invented", "Bo Example",
+		"After the discussion I expect fewer late failures.", "documented judgement")
+	shots.take(fac, "07-report")
+	exportURL := eval[string](fac, "the JSON link", `(Array.from(document.querySelectorAll("a")).find(a => /JSON/.test(a.innerText)) || {href: ""}).href`)
+	if exportURL == "" {
+		t.Fatalf("the report has no link to the JSON record")
+	}
+	raw := eval[string](fac, "download the JSON export", fmt.Sprintf(`fetch(%q, {credentials: "same-origin"}).then(r => r.ok ? r.text() : Promise.reject(new Error("status " + r.status)))`, exportURL))
 	checkExport(t, site, []byte(raw), rationale, map[string][]float64{
 		"Ada Invented/0": {0.02, 0.05, 0.15},
 		"Bo Example/0":   {0.03, 0.08, 0.25},
@@ -220,16 +229,10 @@ func TestWorkshopInBrowser(t *testing.T) {
 		"Bo Example/1":   {0.6, 0.7, 0.8},
 	})
 	// An expert's browser cannot fetch it.
-	leak := eval[string](ada, "fetch the export as an expert", fmt.Sprintf(`fetch(%q).then(r => r.text())`, wsURL+"export.json"))
+	leak := eval[string](ada, "fetch the export as an expert", fmt.Sprintf(`fetch(%q).then(r => r.text())`, exportURL))
 	if strings.HasPrefix(strings.TrimSpace(leak), "{") {
 		t.Errorf("an expert's browser downloaded the facilitator's export")
 	}
-
-	// The printable report.
-	fac.open(wsURL + "report")
-	fac.sees("report", "Pump reliability panel (invented)", rationale, "Ada Invented", "Bo Example",
-		"After the discussion I expect fewer late failures.", "documented judgement")
-	shots.take(fac, "07-report")
 	fac.media("print")
 	if fac.visible(`form`) || fac.visible(`nav`) {
 		t.Errorf("the printed report still shows the navigation or a form")
