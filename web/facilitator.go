@@ -16,6 +16,7 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 	r.Post("/workshops", s.createWorkshop)
 	r.Route("/w/{workshop}", func(r chi.Router) {
 		r.Get("/", s.workshopOverview)
+		r.Post("/edit", s.editWorkshop)
 		r.Get("/questions/new", s.newQuestionForm)
 		r.Post("/questions", s.addQuestion)
 		r.Post("/experts", s.addExpert)

@@ -133,6 +133,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 	}{
 		{"workshop without title", "/workshops", url.Values{"title": {" "}, "purpose": {"kept purpose"}}, "title", "kept purpose"},
 		{"workshop title too long", "/workshops", url.Values{"title": {long}}, "title", long},
+		{"edit without title", wp + "/edit", url.Values{"title": {""}, "notes": {"kept notes"}}, "title", "kept notes"},
 		{"question lower with comma", wp + "/questions", question(map[string]string{"lower": "0,5"}), "lower", "0,5"},
 		{"question upper NaN", wp + "/questions", question(map[string]string{"upper": "NaN"}), "upper", "NaN"},
 		{"question lower hex", wp + "/questions", question(map[string]string{"lower": "0x0p0"}), "lower", "0x0p0"},
@@ -414,5 +415,25 @@ func TestReportAndExports(t *testing.T) {
 	}
 	if res, _ := h.get(questionPath(ws.ID, 999) + "/export.json"); res.StatusCode != http.StatusNotFound {
 		t.Fatalf("export of a missing question: %d", res.StatusCode)
+	}
+}
+
+func TestEditWorkshopAndEscaping(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Plain title")
+	evil := `<script>alert("x")</script>`
+	if res, _ := h.post(workshopPath(ws.ID)+"/edit", url.Values{"title": {evil}, "purpose": {"p & q"}, "notes": {"n"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("edit: %d", res.StatusCode)
+	}
+	got, _ := h.db.Workshop(context.Background(), ws.ID)
+	if got.Title != evil || got.Purpose != "p & q" {
+		t.Fatalf("edit stored %+v", got)
+	}
+	for _, path := range []string{"/", workshopPath(ws.ID), workshopPath(ws.ID) + "/report"} {
+		_, body := h.get(path)
+		if strings.Contains(body, evil) || !strings.Contains(body, "&lt;script&gt;") {
+			t.Errorf("%s: typed text not escaped", path)
+		}
 	}
 }

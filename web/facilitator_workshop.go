@@ -19,6 +19,7 @@ type workshopView struct {
 	ExpertForm *Form
 	RoundForm  *Form
 	RosterForm *Form // revoke and re-issue, whose errors show above the roster
+	EditForm   *Form // title, purpose, decision and notes
 	// Issued is set right after an expert is added or their link re-issued:
 	// the private link, shown this once.
 	Issued *issuedLink
@@ -99,6 +100,11 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 	if v.RosterForm == nil {
 		v.RosterForm = newForm(nil)
 	}
+	if v.EditForm == nil {
+		v.EditForm = newForm(map[string][]string{
+			"title": {ws.Title}, "purpose": {ws.Purpose}, "decision": {ws.Decision}, "notes": {ws.Notes},
+		})
+	}
 	s.renderPage(w, r, status, facilitatorMeta(ws, ws.Title, "overview"), workshopPage(v))
 }
 
@@ -113,4 +119,27 @@ func (s *Server) absLink(r *http.Request, path string) string {
 		scheme = "https"
 	}
 	return scheme + "://" + r.Host + path
+}
+
+// editWorkshop changes the workshop's title, purpose, decision and notes.
+func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	upd := ws
+	upd.Title = f.Text("title", MaxShortText, true)
+	upd.Purpose = f.Text("purpose", MaxLongText, false)
+	upd.Decision = f.Text("decision", MaxLongText, false)
+	upd.Notes = f.Text("notes", MaxLongText, false)
+	if !f.OK() {
+		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{EditForm: f})
+		return
+	}
+	if err := s.store.UpdateWorkshop(r.Context(), upd); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, workshopPath(ws.ID), http.StatusSeeOther)
 }

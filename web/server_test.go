@@ -12,6 +12,7 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+	"time"
 
 	"golang.org/x/crypto/bcrypt"
 
@@ -326,5 +327,18 @@ func TestOversizeBody(t *testing.T) {
 	}
 	if n := h.workshopCount(); n != 0 {
 		t.Fatalf("%d workshops saved from oversize bodies", n)
+	}
+}
+
+func TestSessionExpires(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	if res, _ := h.get("/"); res.StatusCode != http.StatusOK {
+		t.Fatalf("fresh session: %d", res.StatusCode)
+	}
+	later := time.Now().Add(SessionLifetime + time.Minute)
+	h.srv.now = func() time.Time { return later }
+	if res, _ := h.get("/"); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("expired session: %d, want a redirect to sign in", res.StatusCode)
 	}
 }
