@@ -316,6 +316,11 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 		if converged(lo, hi) {
 			return 0.5 * (lo + hi), f, df, d2f
 		}
+		if mid := bisect(lo, hi); !(mid > lo && mid < hi) {
+			// No float64 lies strictly between lo and hi: the root is
+			// below the smallest subnormal or within an ulp of 1.
+			return p.nearerEnd(prob, lo, hi)
+		}
 		next, accept := math.NaN(), poolNewtonAccept
 		if f > 0 && !math.IsInf(f, 0) && math.Abs(r) <= 0.5*prevR {
 			d := r / f
@@ -336,6 +341,17 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 	return x, f, df, d2f
 }
 
+// nearerEnd is whichever of two adjacent floats lo < hi has the smaller
+// CDF residual, with its density and derivatives.
+func (p Pool) nearerEnd(prob, lo, hi float64) (u, f, df, d2f float64) {
+	u = hi
+	if math.Abs(p.unitCDF(lo)-prob) < math.Abs(p.unitCDF(hi)-prob) {
+		u = lo
+	}
+	f, df, d2f = p.unitDensity(u)
+	return u, f, df, d2f
+}
+
 func finite3(a, b, c float64) bool {
 	return !math.IsInf(a, 0) && !math.IsInf(b, 0) && !math.IsInf(c, 0) && !math.IsNaN(a+b+c)
 }
@@ -343,8 +359,7 @@ func finite3(a, b, c float64) bool {
 // converged reports whether a < b are equal to poolQuantileXTol relative
 // to the distance from the nearer bound of [0, 1].
 func converged(a, b float64) bool {
-	scale := math.Min(b, 1-a)
-	return b-a <= poolQuantileXTol*scale || b-a <= 1e-300
+	return b-a <= poolQuantileXTol*math.Min(b, 1-a)
 }
 
 // bisect splits [lo, hi] in (0, 1): geometrically near 0 when the bracket
@@ -391,7 +406,9 @@ const representationGrid = 99
 // the criterion FitQuantiles applies to an expert's judgement (O'Hagan et
 // al. 2006, "Uncertain Judgements", §6.4), solved by the same search in
 // log-parameter space with gonum/optimize. For a pool of one Beta it
-// recovers that Beta. The report says how far the Beta is from the pool.
+// recovers that Beta. Grid points whose pool quantile rounds to a bound
+// are left out of the fit but not out of the reported distance, which is
+// taken over the whole grid.
 func (p Pool) BestBeta() (Representation, error) {
 	probs := make([]float64, representationGrid)
 	for k := range probs {
@@ -401,23 +418,29 @@ func (p Pool) BestBeta() (Representation, error) {
 	if err != nil {
 		return Representation{}, err
 	}
-	u := make([]float64, len(qs))
+	// A pool quantile that rounds to a bound (an extreme U or J shaped
+	// expert) cannot enter the fit, which needs interior points; it still
+	// counts in the reported distance.
+	var u, up []float64
 	for k, q := range qs {
-		u[k] = (q - p.Lower) / p.width()
-		if !(u[k] > 0 && u[k] < 1) {
-			return Representation{}, fmt.Errorf("%w: the pool's %v quantile lies on a bound", ErrFitFailed, probs[k])
+		if x := (q - p.Lower) / p.width(); x > 0 && x < 1 {
+			u, up = append(u, x), append(up, probs[k])
 		}
 	}
-	d, sse, resid, err := fitCumulative(u, probs)
+	if len(u) < 2 {
+		return Representation{}, fmt.Errorf("%w: fewer than 2 of the pool's grid quantiles lie inside the bounds", ErrFitFailed)
+	}
+	d, _, _, err := fitCumulative(u, up)
 	if err != nil {
 		return Representation{}, err
 	}
 	r := Representation{
 		Dist:  ScaledBeta{Beta: d, Lower: p.Lower, Upper: p.Upper},
 		Probs: probs,
-		SSE:   sse,
 	}
-	for _, e := range resid {
+	for k, q := range qs {
+		e := r.Dist.CDF(q) - probs[k]
+		r.SSE += e * e
 		r.MaxCDFError = math.Max(r.MaxCDFError, math.Abs(e))
 	}
 	for i, k := range [3]int{4, 49, 94} { // p = 0.05, 0.5, 0.95

@@ -7,6 +7,7 @@ import (
 	"testing"
 
 	"gonum.org/v1/gonum/integrate/quad"
+	"gonum.org/v1/gonum/mathext"
 )
 
 func unitBetas(ab ...float64) []ScaledBeta {
@@ -375,4 +376,51 @@ func FuzzPoolQuantiles(f *testing.F) {
 			t.Fatalf("mean %v variance %v", m, v)
 		}
 	})
+}
+
+func TestPoolQuantileUnderflow(t *testing.T) {
+	// Beta(0.001, 5): for small x, I_x(a, b) ≈ x^a / (a B(a, b)), the
+	// leading term of its series (DLMF §8.17(iii)), so the median is
+	// (0.5·a·B(a, b))^(1/a) ≈ 1.16e-302, and the 1% quantile (≈ 1e-2000)
+	// underflows to 0. Quantiles must stay ordered and not stall.
+	a, b := 0.001, 5.0
+	p := mustPool(t, unitBetas(a, b), nil)
+	qs, err := p.Quantiles([]float64{0.001, 0.01, 0.5, 0.999})
+	if err != nil {
+		t.Fatal(err)
+	}
+	median := math.Exp(math.Log(0.5*a*math.Exp(mathext.Lbeta(a, b))) / a)
+	if qs[0] != 0 || qs[1] != 0 || !relClose(qs[2], median, 1e-9) {
+		t.Errorf("quantiles %v, want [0 0 %v ...]", qs, median)
+	}
+	for i := 1; i < len(qs); i++ {
+		if qs[i] < qs[i-1] {
+			t.Errorf("quantiles out of order: %v", qs)
+		}
+	}
+}
+
+func TestBestBetaWithQuantilesOnBounds(t *testing.T) {
+	// A U-shaped expert (invented) puts grid quantiles within an ulp of
+	// 1; they leave the fit but stay in the reported distance.
+	p := mustPool(t, unitBetas(0.01, 0.01, 3, 3), nil)
+	r, err := p.BestBeta()
+	if err != nil {
+		t.Fatal(err)
+	}
+	qs, _ := p.Quantiles(r.Probs)
+	var maxE float64
+	onBound := 0
+	for k, q := range qs {
+		if q <= 0 || q >= 1 {
+			onBound++
+		}
+		maxE = math.Max(maxE, math.Abs(r.Dist.CDF(q)-r.Probs[k]))
+	}
+	if onBound == 0 {
+		t.Fatal("test case has no grid quantile on a bound")
+	}
+	if math.Abs(maxE-r.MaxCDFError) > 1e-15 {
+		t.Errorf("max CDF error %v, recomputed over the whole grid %v", r.MaxCDFError, maxE)
+	}
 }

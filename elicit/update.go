@@ -142,6 +142,9 @@ func hdiInterior(d Beta, level float64) (lo, hi float64) {
 		next := t - g/(dlogf(hi)/d.PDF(hi)-dlogf(lo)/d.PDF(lo))
 		if !(next > tLo && next < tHi) {
 			next = bisect(tLo, tHi)
+			if !(next > tLo && next < tHi) {
+				break // no float64 left between the ends of the bracket
+			}
 		} else if math.Abs(next-t) <= 1e-13*next {
 			t = next
 			break
