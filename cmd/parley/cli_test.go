@@ -312,3 +312,25 @@ func TestScriptingBinary(t *testing.T) {
 		}
 	}
 }
+
+func TestPoolWithoutSingleBeta(t *testing.T) {
+	// Beta(5, 0.001) (invented, extreme): its grid quantiles crowd within
+	// an ulp of 1 and no Beta inside the fitter's range represents it, so
+	// the pool is printed with "beta": null and a warning, not an error.
+	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Beta     *elicit.Beta
+		Warnings []string
+		Mean     float64
+	}
+	decodeJSON(t, out, &got)
+	if got.Beta != nil || len(got.Warnings) != 1 || !strings.Contains(got.Warnings[0], "no single Beta") {
+		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
+	}
+	if want := 5 / 5.001; math.Abs(got.Mean-want) > 1e-15 {
+		t.Errorf("mean %v, want %v", got.Mean, want)
+	}
+}

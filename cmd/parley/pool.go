@@ -49,20 +49,23 @@ type poolExpert struct {
 // poolOutput is the JSON printed by `parley pool`; its keys are a public
 // contract.
 type poolOutput struct {
-	Method    string      `json:"method"`
-	Experts   int         `json:"experts"`
-	Lower     float64     `json:"lower"`
-	Upper     float64     `json:"upper"`
-	Mean      float64     `json:"mean"`
-	SD        float64     `json:"sd"`
-	Probs     []float64   `json:"probs"`
-	Quantiles []float64   `json:"quantiles"`
-	Beta      elicit.Beta `json:"beta"`
+	Method    string    `json:"method"`
+	Experts   int       `json:"experts"`
+	Lower     float64   `json:"lower"`
+	Upper     float64   `json:"upper"`
+	Mean      float64   `json:"mean"`
+	SD        float64   `json:"sd"`
+	Probs     []float64 `json:"probs"`
+	Quantiles []float64 `json:"quantiles"`
+	// Beta is null, with a warning, when no Beta within the fitter's
+	// search range represents a linear pool.
+	Beta *elicit.Beta `json:"beta"`
 	// BetaExact is true for the log pool, whose result is itself a Beta;
 	// for the linear pool beta is the least-squares representation and
 	// BetaFit says how far it is from the pool.
 	BetaExact bool     `json:"beta_exact"`
 	BetaFit   *betaFit `json:"beta_fit"`
+	Warnings  []string `json:"warnings"`
 }
 
 type betaFit struct {
@@ -196,7 +199,7 @@ func poolResult(in poolInput) (poolOutput, error) {
 	if err != nil {
 		return poolOutput{}, err
 	}
-	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs}
+	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}}
 	switch in.Method {
 	case "", "linear":
 		out.Method = "linear"
@@ -207,12 +210,17 @@ func poolResult(in poolInput) (poolOutput, error) {
 		if out.Quantiles, err = p.Quantiles(probs); err != nil {
 			return poolOutput{}, err
 		}
+		out.Mean, out.SD = p.Mean(), p.SD()
 		r, err := p.BestBeta()
-		if err != nil {
+		switch {
+		case errors.Is(err, elicit.ErrFitFailed):
+			out.Warnings = append(out.Warnings, "no single Beta represents this pool: "+err.Error())
+		case err != nil:
 			return poolOutput{}, err
+		default:
+			out.Beta = &r.Dist.Beta
+			out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]}}
 		}
-		out.Mean, out.SD, out.Beta = p.Mean(), p.SD(), r.Dist.Beta
-		out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]}}
 	case "log":
 		out.Method = "log"
 		d, err := elicit.LogPool(dists, weights)
@@ -223,11 +231,14 @@ func poolResult(in poolInput) (poolOutput, error) {
 		for i, pr := range probs {
 			out.Quantiles[i] = d.Quantile(pr)
 		}
-		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), d.Beta, true
+		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), &d.Beta, true
 	default:
 		return poolOutput{}, &elicit.InputError{Field: "method", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("got %q, want \"linear\" or \"log\"", in.Method)}
 	}
-	nums := append([]float64{out.Mean, out.SD, out.Beta.Alpha, out.Beta.Beta}, out.Quantiles...)
+	nums := append([]float64{out.Mean, out.SD}, out.Quantiles...)
+	if out.Beta != nil {
+		nums = append(nums, out.Beta.Alpha, out.Beta.Beta)
+	}
 	if !finite(nums...) {
 		return poolOutput{}, errors.New("the pool produced a non-finite number; nothing printed")
 	}
@@ -264,11 +275,18 @@ func writePoolText(w io.Writer, o poolOutput) error {
 	for i, p := range o.Probs {
 		fmt.Fprintf(&b, "  quantile %-8g %.6g\n", p, o.Quantiles[i])
 	}
-	if o.BetaExact {
+	switch {
+	case o.Beta == nil:
+		// No representation; a warning says why.
+	case o.BetaExact:
 		fmt.Fprintf(&b, "the pool is exactly Beta(%.6g, %.6g)\n", o.Beta.Alpha, o.Beta.Beta)
-	} else if f := o.BetaFit; f != nil {
+	case o.BetaFit != nil:
+		f := o.BetaFit
 		fmt.Fprintf(&b, "best single Beta(%.6g, %.6g): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%\n",
 			o.Beta.Alpha, o.Beta.Beta, f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95)
+	}
+	for _, m := range o.Warnings {
+		fmt.Fprintf(&b, "warning: %s\n", m)
 	}
 	fmt.Fprintln(&b, priorCaution)
 	_, err := io.WriteString(w, b.String())
