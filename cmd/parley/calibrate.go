@@ -1,0 +1,338 @@
+package main
+
+import (
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"regexp"
+	"strconv"
+	"strings"
+	"text/tabwriter"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("calibrate", "score experts on calibration questions and weight them (--input FILE.csv, --alpha, --format)", runCalibrate)
+}
+
+func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("calibrate", stderr)
+	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95 (- for standard input)")
+	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the pooled decision maker's score)")
+	overshoot := fs.String("overshoot", "", "widening k of each question's intrinsic range (default 0.1)")
+	format := fs.String("format", "text", "text or json")
+	loo := fs.Bool("leave-one-out", false, "also rerun without each calibration question and each expert and report the shift of the pooled 5/50/95 percentiles on the calibration questions")
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
+	}
+	if err := checkFormat(*format); err != nil {
+		return fail(stderr, "calibrate", err)
+	}
+	var opt elicit.ModelOptions
+	if *alpha != "" {
+		a, err := number("alpha", *alpha)
+		if err != nil {
+			return fail(stderr, "calibrate", err)
+		}
+		opt.Alpha = &a
+	}
+	if *overshoot != "" {
+		k, err := number("overshoot", *overshoot)
+		if err != nil {
+			return fail(stderr, "calibrate", err)
+		}
+		if !(k > 0) {
+			return fail(stderr, "calibrate", badInput("overshoot", "must be greater than 0, got %v", k))
+		}
+		opt.Overshoot = k
+	}
+	if *input == "" {
+		return fail(stderr, "calibrate", badInput("input", "a CSV file is required"))
+	}
+	r := stdin
+	if *input != "-" {
+		f, err := os.Open(*input)
+		if err != nil {
+			return fail(stderr, "calibrate", badInput("input", "%v", err))
+		}
+		defer f.Close()
+		r = f
+	}
+	seeds, err := readSeedCSV(r)
+	if err != nil {
+		return fail(stderr, "calibrate", err)
+	}
+	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, nil, opt)
+	if err != nil {
+		return fail(stderr, "calibrate", seeds.rowError(err))
+	}
+	var rob *elicit.LeaveOneOutReport
+	if *loo {
+		r, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, nil, opt, nil)
+		if err != nil {
+			return fail(stderr, "calibrate", seeds.rowError(err))
+		}
+		rob = &r
+	}
+	if *format == "json" {
+		err = writeJSON(stdout, calibrateOutput{Scores: s, LeaveOneOut: rob})
+	} else {
+		err = writeScoresTable(stdout, s, opt.Alpha == nil)
+		if err == nil && rob != nil {
+			err = writeLeaveOneOut(stdout, *rob)
+		}
+	}
+	if err != nil {
+		return fail(stderr, "calibrate", err)
+	}
+	return exitOK
+}
+
+// calibrateOutput is the JSON output: the scores' keys (alpha, probs,
+// experts, pooled, questions, ...) and, with --leave-one-out, the
+// robustness report under "leave_one_out".
+type calibrateOutput struct {
+	elicit.Scores
+	LeaveOneOut *elicit.LeaveOneOutReport `json:"leave_one_out,omitempty"`
+}
+
+// seedCSV is a parsed calibration CSV; rows[i] is the file line of
+// assessments[i].
+type seedCSV struct {
+	assessments  []elicit.SeedAssessment
+	realisations map[string]float64
+	rows         []int
+}
+
+// quantileColumn is a qNN header: the probability 0.NN, e.g. q05 → 0.05,
+// q975 → 0.975.
+var quantileColumn = regexp.MustCompile(`^q([0-9]{2,})$`)
+
+// seedHeader are the leading columns of a calibration CSV. The British
+// spelling "realisation" is accepted too.
+var seedHeader = []string{"expert", "question", "realization"}
+
+// requiredQuantiles are the columns every calibration CSV must have.
+var requiredQuantiles = []string{"q05", "q50", "q95"}
+
+// readSeedCSV reads a calibration CSV: a header expert,question,
+// realization followed by quantile columns qNN in increasing order, which
+// must include q05, q50 and q95; then one row per expert and question.
+// Lines starting with # are comments. Errors name the row (the line in
+// the file), the column and the rule.
+func readSeedCSV(r io.Reader) (*seedCSV, error) {
+	cr := csv.NewReader(r)
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	cr.TrimLeadingSpace = true
+	header, err := cr.Read()
+	if err == io.EOF {
+		return nil, &elicit.InputError{Field: "header", Rule: elicit.RuleRequired, Detail: "the file is empty"}
+	}
+	if err != nil {
+		return nil, csvError(err)
+	}
+	cols, probs, err := parseSeedHeader(header)
+	if err != nil {
+		return nil, err
+	}
+	out := &seedCSV{realisations: map[string]float64{}}
+	realRow := map[string]int{}
+	seen := map[[2]string]int{}
+	for {
+		rec, err := cr.Read()
+		if err == io.EOF {
+			break
+		}
+		if err != nil {
+			return nil, csvError(err)
+		}
+		row, _ := cr.FieldPos(0)
+		field := func(col string) string { return fmt.Sprintf("row %d: %s", row, col) }
+		cell := func(i int) string {
+			if i < len(rec) {
+				return strings.TrimSpace(rec[i])
+			}
+			return ""
+		}
+		if len(rec) > len(cols) {
+			return nil, &elicit.InputError{Field: field("columns"), Rule: elicit.RuleCount,
+				Detail: fmt.Sprintf("%d fields, the header has %d", len(rec), len(cols))}
+		}
+		a := elicit.SeedAssessment{Expert: cell(0), Question: cell(1), Probs: probs, Quantiles: make([]float64, len(probs))}
+		if a.Expert == "" {
+			return nil, &elicit.InputError{Field: field("expert"), Rule: elicit.RuleRequired}
+		}
+		if a.Question == "" {
+			return nil, &elicit.InputError{Field: field("question"), Rule: elicit.RuleRequired}
+		}
+		x, err := number(field(cols[2]), cell(2))
+		if err != nil {
+			return nil, err
+		}
+		for j := range probs {
+			if a.Quantiles[j], err = number(field(cols[3+j]), cell(3+j)); err != nil {
+				return nil, err
+			}
+		}
+		if err := a.Validate(); err != nil {
+			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[3:])
+		}
+		key := [2]string{a.Expert, a.Question}
+		if first, dup := seen[key]; dup {
+			return nil, &elicit.InputError{Field: field("expert, question"), Rule: elicit.RuleDuplicate,
+				Detail: fmt.Sprintf("expert %q and question %q already on row %d", a.Expert, a.Question, first)}
+		}
+		seen[key] = row
+		if first, ok := realRow[a.Question]; ok && out.realisations[a.Question] != x {
+			return nil, &elicit.InputError{Field: field(cols[2]), Rule: ruleSameRealisation,
+				Detail: fmt.Sprintf("%v here, %v on row %d", x, out.realisations[a.Question], first)}
+		} else if !ok {
+			realRow[a.Question] = row
+			out.realisations[a.Question] = x
+		}
+		out.assessments = append(out.assessments, a)
+		out.rows = append(out.rows, row)
+	}
+	if len(out.assessments) == 0 {
+		return nil, &elicit.InputError{Field: "rows", Rule: elicit.RuleCount, Detail: "no assessments after the header"}
+	}
+	return out, nil
+}
+
+// ruleSameRealisation is broken when rows of one question give different
+// realisations.
+const ruleSameRealisation elicit.Rule = "must be the same on every row of the question"
+
+func csvError(err error) error {
+	var pe *csv.ParseError
+	if errors.As(err, &pe) {
+		return &elicit.InputError{Field: fmt.Sprintf("row %d", pe.Line), Rule: ruleCSVSyntax, Detail: pe.Err.Error()}
+	}
+	return err
+}
+
+const ruleCSVSyntax elicit.Rule = "must be well-formed CSV"
+
+// parseSeedHeader checks the header and returns the column names and the
+// probabilities of the quantile columns.
+func parseSeedHeader(header []string) ([]string, []float64, error) {
+	cols := make([]string, len(header))
+	for i, h := range header {
+		cols[i] = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+	}
+	for i, want := range seedHeader {
+		if i >= len(cols) || (cols[i] != want && !(want == "realization" && cols[i] == "realisation")) {
+			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("header column %d", i+1), Rule: ruleSeedHeader,
+				Detail: fmt.Sprintf("want %q", want)}
+		}
+	}
+	var probs []float64
+	have := map[string]bool{}
+	for _, c := range cols[len(seedHeader):] {
+		m := quantileColumn.FindStringSubmatch(c)
+		if m == nil {
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: ruleSeedHeader,
+				Detail: "quantile columns are named qNN, e.g. q05, q50, q95"}
+		}
+		p, _ := strconv.ParseFloat("0."+m[1], 64)
+		if len(probs) > 0 && !(p > probs[len(probs)-1]) {
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: elicit.RuleProbIncreasing,
+				Detail: fmt.Sprintf("%v after %v", p, probs[len(probs)-1])}
+		}
+		if p == 0 {
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: elicit.RuleProbOpen, Detail: "got 0"}
+		}
+		probs = append(probs, p)
+		have[c] = true
+	}
+	for _, q := range requiredQuantiles {
+		if !have[q] {
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(q), Rule: elicit.RuleRequired,
+				Detail: "need at least q05, q50 and q95"}
+		}
+	}
+	return cols, probs, nil
+}
+
+const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (more qNN columns allowed, increasing)"
+
+// renameQuantiles turns a quantiles[j] field into the CSV column name, and
+// prefixes the row.
+func renameQuantiles(err error, row string, qcols []string) error {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	c := *ie
+	for j, name := range qcols {
+		if c.Field == fmt.Sprintf("quantiles[%d]", j) {
+			c.Field = name
+		}
+	}
+	c.Field = row + ": " + c.Field
+	return &c
+}
+
+// rowError replaces an assessments[i] field in an error of the classical
+// model by the CSV row it came from.
+func (s *seedCSV) rowError(err error) error {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	for i := len(s.rows) - 1; i >= 0; i-- {
+		p := fmt.Sprintf("assessments[%d]", i)
+		if strings.HasPrefix(ie.Field, p) {
+			c := *ie
+			c.Field = fmt.Sprintf("row %d", s.rows[i]) + strings.TrimPrefix(ie.Field, p)
+			return &c
+		}
+	}
+	return err
+}
+
+// writeScoresTable prints the scores as a table.
+func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
+	how := "fixed"
+	if optimised {
+		how = "chosen to maximise the pooled decision maker's calibration × information"
+	}
+	probs := make([]string, len(s.Probs))
+	for i, p := range s.Probs {
+		probs[i] = strconv.FormatFloat(p, 'g', -1, 64)
+	}
+	fmt.Fprintf(w, "Calibration questions: %d; probabilities %s; intrinsic range widened by %g\n",
+		len(s.Questions), strings.Join(probs, ", "), s.Overshoot)
+	fmt.Fprintf(w, "Cut-off alpha = %.4g (%s)\n\n", s.Alpha, how)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "expert\tanswered\tcalibration\tinformation\tcal × inf\tweight")
+	for _, e := range s.Experts {
+		fmt.Fprintf(tw, "%s\t%d\t%.4g\t%.4f\t%.4g\t%.4g\n", e.Expert, e.N, e.Calibration, e.Information, e.Combined, e.Weight)
+	}
+	p := s.Pooled
+	fmt.Fprintf(tw, "%s\t%d\t%.4g\t%.4f\t%.4g\t\n", "pooled (performance weights)", p.N, p.Calibration, p.Information, p.Combined)
+	return tw.Flush()
+}
+
+// writeLeaveOneOut prints the robustness report as a table.
+func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport) error {
+	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its intrinsic range: %.4g\n\n", r.MaxShift)
+	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
+	fmt.Fprintln(tw, "left out\tname\talpha\tlargest shift\tnote")
+	for _, c := range r.Cases {
+		note := c.Error
+		if note == "" && len(c.Unpooled) > 0 {
+			note = "no weighted expert on " + strings.Join(c.Unpooled, ", ")
+		}
+		if c.Error != "" {
+			fmt.Fprintf(tw, "%s\t%s\t\t\t%s\n", c.LeftOut, c.Name, note)
+			continue
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%.4g\t%.4g\t%s\n", c.LeftOut, c.Name, c.Alpha, c.Shift, note)
+	}
+	return tw.Flush()
+}

@@ -1,0 +1,248 @@
+package main
+
+import (
+	"bytes"
+	"math"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+const inverterSeeds = "../../testdata/calibration/inverter_seeds.csv"
+
+// calibrateJSON is the public JSON contract of `parley calibrate`.
+type calibrateJSON struct {
+	Alpha   *float64 `json:"alpha"`
+	Experts []struct {
+		Expert      string   `json:"expert"`
+		Calibration *float64 `json:"calibration"`
+		Information *float64 `json:"information"`
+		Weight      *float64 `json:"weight"`
+	} `json:"experts"`
+	Pooled struct {
+		Calibration *float64 `json:"calibration"`
+		Information *float64 `json:"information"`
+	} `json:"pooled"`
+}
+
+func runCalibrateJSON(t *testing.T, args ...string) calibrateJSON {
+	t.Helper()
+	code, out, errOut := runCLI(t, "", append([]string{"calibrate", "--format", "json"}, args...)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got calibrateJSON
+	decodeJSON(t, out, &got)
+	if got.Alpha == nil || got.Pooled.Calibration == nil || got.Pooled.Information == nil || len(got.Experts) == 0 {
+		t.Fatalf("missing keys in %s", out)
+	}
+	for _, e := range got.Experts {
+		if e.Expert == "" || e.Calibration == nil || e.Information == nil || e.Weight == nil {
+			t.Fatalf("missing expert keys in %s", out)
+		}
+	}
+	return got
+}
+
+func TestCalibrateJSON(t *testing.T) {
+	got := runCalibrateJSON(t, "--input", inverterSeeds)
+	sum := 0.0
+	byName := map[string]float64{}
+	for _, e := range got.Experts {
+		sum += *e.Weight
+		byName[e.Expert] = *e.Weight
+		if *e.Weight > 0 && *e.Calibration < *got.Alpha {
+			t.Errorf("%s has weight %v below the cut-off %v", e.Expert, *e.Weight, *got.Alpha)
+		}
+	}
+	if math.Abs(sum-1) > 1e-12 {
+		t.Errorf("weights sum to %v", sum)
+	}
+	// The invented overconfident expert misses 7 of 8 realisations and
+	// must end with less weight than any other.
+	for _, name := range []string{"Ama", "Bruno", "Dagny"} {
+		if !(byName["Chidi"] < byName[name]) {
+			t.Errorf("Chidi weight %v not below %s's %v", byName["Chidi"], name, byName[name])
+		}
+	}
+
+	// With --alpha 0 every weight is ∝ calibration × information.
+	zero := runCalibrateJSON(t, "--input", inverterSeeds, "--alpha", "0")
+	total := 0.0
+	for _, e := range zero.Experts {
+		total += *e.Calibration * *e.Information
+	}
+	for _, e := range zero.Experts {
+		want := *e.Calibration * *e.Information / total
+		if math.Abs(*e.Weight-want) > 1e-12 || *e.Weight == 0 {
+			t.Errorf("--alpha 0: %s weight %v, want %v", e.Expert, *e.Weight, want)
+		}
+	}
+	if *zero.Alpha != 0 {
+		t.Errorf("--alpha 0 reported alpha %v", *zero.Alpha)
+	}
+
+	// The CLI reports what elicit computes from the same rows.
+	as, real := inverterAssessments(t)
+	s, err := elicit.ClassicalModel(as, real, nil, elicit.ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if *got.Alpha != s.Alpha || *got.Pooled.Calibration != s.Pooled.Calibration {
+		t.Errorf("CLI alpha %v DM %v, elicit %v %v", *got.Alpha, *got.Pooled.Calibration, s.Alpha, s.Pooled.Calibration)
+	}
+}
+
+func inverterAssessments(t *testing.T) ([]elicit.SeedAssessment, map[string]float64) {
+	t.Helper()
+	f, err := os.Open(inverterSeeds)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	s, err := readSeedCSV(f)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s.assessments, s.realisations
+}
+
+func TestCalibrateLeaveOneOut(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", inverterSeeds, "--leave-one-out", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		LeaveOneOut *elicit.LeaveOneOutReport `json:"leave_one_out"`
+	}
+	decodeJSON(t, out, &got)
+	if got.LeaveOneOut == nil || len(got.LeaveOneOut.Cases) != 8+4 || !(got.LeaveOneOut.MaxShift > 0) {
+		t.Fatalf("leave_one_out: %+v", got.LeaveOneOut)
+	}
+	code, out, _ = runCLI(t, "", "calibrate", "--input", inverterSeeds, "--leave-one-out")
+	if code != 0 || !strings.Contains(out, "Leave one out") || !strings.Contains(out, "Chidi") {
+		t.Errorf("text output:\n%s", out)
+	}
+}
+
+func TestCalibrateText(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", inverterSeeds)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"Cut-off alpha", "Ama", "Chidi", "pooled (performance weights)", "weight"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+func TestCalibrateExtraQuantiles(t *testing.T) {
+	csv := "expert,question,realization,q05,q25,q50,q75,q95\n" +
+		"A,s1,5,1,3,5,7,9\nB,s1,5,2,4,4.5,5.5,8\n" +
+		"A,s2,2,1,3,5,7,9\nB,s2,2,0,1,1.5,2.5,3\n"
+	code, out, errOut := runCLI(t, csv, "calibrate", "--input", "-", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(out, `"probs": [
+    0.05,
+    0.25,
+    0.5,
+    0.75,
+    0.95
+  ]`) {
+		t.Errorf("probabilities not read from the qNN columns:\n%s", out)
+	}
+}
+
+func TestCalibrateBadInput(t *testing.T) {
+	const head = "expert,question,realization,q05,q50,q95\n"
+	for _, c := range []struct {
+		name string
+		csv  string
+		args []string
+		want []string // all must appear in the one stderr line
+	}{
+		{"missing q50 column", "expert,question,realization,q05,q95\nA,s1,1,0,2\n", nil, []string{`"q50"`, string(elicit.RuleRequired)}},
+		{"empty quantile", head + "A,s1,1,0,,2\n", nil, []string{"row 2", "q50", string(elicit.RuleRequired)}},
+		{"short row", head + "A,s1,1,0,1\n", nil, []string{"row 2", "q95", string(elicit.RuleRequired)}},
+		{"non-increasing", head + "A,s1,1,0,1,2\nA,s2,1,0,2,2\n", nil, []string{"row 3", "q95", string(elicit.RuleValueIncreasing)}},
+		{"missing realization", head + "A,s1,1,0,1,2\nB,s1,,0,1,2\n", nil, []string{"row 3", "realization", string(elicit.RuleRequired)}},
+		{"realization differs", head + "A,s1,1,0,1,2\nB,s1,1.5,0,1,2\n", nil, []string{"row 3", "realization", "row 2"}},
+		{"duplicate", head + "A,s1,1,0,1,2\nB,s1,1,0,1,2\nA,s1,1,0,1,3\n", nil, []string{"row 4", string(elicit.RuleDuplicate), "row 2"}},
+		{"NaN", head + "A,s1,1,0,NaN,2\n", nil, []string{"row 2", "q50"}},
+		{"Inf", head + "A,s1,Inf,0,1,2\n", nil, []string{"row 2", "realization"}},
+		{"text", head + "A,s1,1,zero,1,2\n", nil, []string{"row 2", "q05"}},
+		{"comment lines count", "# invented\n" + head + "A,s1,1,0,1,2\nA,s2,1,3,1,2\n", nil, []string{"row 4", "q50", string(elicit.RuleValueIncreasing)}},
+		{"no expert", head + ",s1,1,0,1,2\n", nil, []string{"row 2", "expert", string(elicit.RuleRequired)}},
+		{"wrong header", "who,question,realization,q05,q50,q95\n", nil, []string{"header column 1"}},
+		{"no rows", head, nil, []string{"rows"}},
+		{"alpha too high", head + "A,s1,1,0,1,2\n", []string{"--alpha", "1.5"}, []string{"alpha", string(elicit.RuleUnitInterval)}},
+		{"alpha NaN", head + "A,s1,1,0,1,2\n", []string{"--alpha", "NaN"}, []string{"alpha"}},
+		{"no input", "", []string{"--input", ""}, []string{"input"}},
+	} {
+		args := []string{"calibrate", "--input", "-"}
+		args = append(args, c.args...)
+		code, out, errOut := runCLI(t, c.csv, args...)
+		if code != 2 {
+			t.Errorf("%s: exit %d, want 2; stderr %q", c.name, code, errOut)
+			continue
+		}
+		if out != "" || strings.Count(errOut, "\n") != 1 {
+			t.Errorf("%s: stdout %q, stderr %q", c.name, out, errOut)
+		}
+		for _, w := range c.want {
+			if !strings.Contains(errOut, w) {
+				t.Errorf("%s: stderr %q lacks %q", c.name, errOut, w)
+			}
+		}
+	}
+}
+
+func TestCalibrateBinary(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	bin := filepath.Join(t.TempDir(), "parley")
+	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	bad := filepath.Join(t.TempDir(), "bad.csv")
+	if err := os.WriteFile(bad, []byte("expert,question,realization,q05,q50,q95\nA,s1,1,0,1,2\nA,s1,1,0,1,2\n"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"calibrate", "--input", inverterSeeds, "--format", "json"}, 0, `"pooled"`},
+		{[]string{"calibrate", "--input", bad}, 2, "row 3"},
+	} {
+		cmd := exec.Command(bin, c.args...)
+		var out, errOut bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &errOut
+		err := cmd.Run()
+		code := 0
+		if ee, ok := err.(*exec.ExitError); ok {
+			code = ee.ExitCode()
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		text := out.String()
+		if c.code != 0 {
+			text = errOut.String()
+			if strings.Count(text, "\n") != 1 || strings.Contains(text, "goroutine") {
+				t.Errorf("%v: stderr %q", c.args, text)
+			}
+		}
+		if code != c.code || !strings.Contains(text, c.want) {
+			t.Errorf("%v: exit %d (want %d), output %q lacks %q", c.args, code, c.code, text, c.want)
+		}
+	}
+}
