@@ -267,7 +267,6 @@ type lsq struct {
 	th    [2]float64 // θ at which r and jac are cached
 	hasR  bool
 	hasJ  bool
-	evals int // residual evaluations, for tests of the search's cost
 }
 
 func inBox(th []float64) bool {
@@ -276,7 +275,6 @@ func inBox(th []float64) bool {
 
 // resid writes F(uᵢ; e^θ₀, e^θ₁) − pᵢ into r.
 func (q *lsq) resid(th []float64, r []float64) {
-	q.evals++
 	a, b := math.Exp(th[0]), math.Exp(th[1])
 	d := distuv.Beta{Alpha: a, Beta: b}
 	for i, x := range q.u {
