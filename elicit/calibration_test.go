@@ -670,3 +670,37 @@ func TestCalibrationScoreBadInput(t *testing.T) {
 		t.Errorf("quantile on range end: got %v", err)
 	}
 }
+
+// TestPartialAnswers: N counts only the questions an expert answered, and
+// the DM skips a question that no expert with weight answered.
+func TestPartialAnswers(t *testing.T) {
+	as, real := handSeeds()
+	// Z answers only q5, and misses it by far.
+	real["q5"] = 100
+	as = append(as,
+		SeedAssessment{Expert: "Z", Question: "q5", Probs: p5_50_95, Quantiles: []float64{1, 2, 3}})
+	zero := 0.0
+	s0, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+	if err != nil {
+		t.Fatal(err)
+	}
+	z := expertScore(t, s0, "Z")
+	// One realisation above q95: s = (0, 0, 0, 1), I = ln(1/0.05),
+	// C = 1 − F_χ²(2 ln 20; 3), by the formula.
+	want := distuv.ChiSquared{K: 3}.Survival(2 * math.Log(20))
+	if z.N != 1 || relErr(z.Calibration, want) > 1e-12 || expertScore(t, s0, "A").N != 4 {
+		t.Errorf("Z: %+v, want N 1, calibration %v", z, want)
+	}
+	if s0.Pooled.N != 5 || s0.Questions[4].Question != "q5" || len(s0.Questions[4].Pooled) != 3 {
+		t.Errorf("α = 0: DM on %d questions, q5 %+v", s0.Pooled.N, s0.Questions[4])
+	}
+	// A cut-off above Z's calibration leaves q5 without a weighted expert.
+	cut := z.Calibration * 2
+	s1, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &cut})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if s1.Pooled.N != 4 || s1.Questions[4].Pooled != nil || expertScore(t, s1, "Z").Weight != 0 {
+		t.Errorf("α = %v: DM on %d questions, q5 %+v", cut, s1.Pooled.N, s1.Questions[4])
+	}
+}
