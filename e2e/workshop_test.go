@@ -374,6 +374,9 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 				}
 				near(t, key+" alpha", cf.Fit.Dist.Alpha, want.Dist.Alpha)
 				near(t, key+" beta", cf.Fit.Dist.Beta, want.Dist.Beta.Beta)
+				ref := rFits[key]
+				nearRef(t, key+" alpha against R", cf.Fit.Dist.Alpha, ref[0], 1e-3)
+				nearRef(t, key+" beta against R", cf.Fit.Dist.Beta, ref[1], 1e-3)
 				if !floatsEqual(cf.Fit.Stated, typed[key]) {
 					t.Errorf("export: stated values of %s: %v, typed %v", key, cf.Fit.Stated, typed[key])
 				}
@@ -392,6 +395,7 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 		}
 		near(t, fmt.Sprintf("Q%d pool mean", qi+1), gq.Pool.Mean, pool.Mean())
 		near(t, fmt.Sprintf("Q%d pool sd", qi+1), gq.Pool.SD, pool.SD())
+		nearRef(t, fmt.Sprintf("Q%d pool mean against R", qi+1), gq.Pool.Mean, rPoolMean[qi], 1e-4)
 		// The pool mean of a linear pool is the weighted mean of the
 		// components' means (definition of a mixture; common practice).
 		mixMean := (dists[0].Mean() + dists[1].Mean()) / 2
@@ -415,6 +419,9 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 		}
 		near(t, "agreed alpha", ap.Dist.Alpha, rep.Dist.Alpha)
 		near(t, "agreed beta", ap.Dist.Beta, rep.Dist.Beta.Beta)
+		nearRef(t, "agreed alpha against R", ap.Dist.Alpha, rBestBeta[0], 1e-3)
+		nearRef(t, "agreed beta against R", ap.Dist.Beta, rBestBeta[1], 1e-3)
+		nearRef(t, "Q1 pool sd against R", gq.Pool.SD, rPoolSD, 1e-4)
 		if ap.Dist.Lower != 0 || ap.Dist.Upper != 1 {
 			t.Errorf("agreed prior bounds [%v, %v], want [0, 1]", ap.Dist.Lower, ap.Dist.Upper)
 		}
@@ -423,6 +430,34 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 		}
 		t.Logf("agreed prior Beta(%.4g, %.4g) from a pool of Beta(%.4g, %.4g) and Beta(%.4g, %.4g)",
 			ap.Dist.Alpha, ap.Dist.Beta, dists[0].Alpha, dists[0].Beta.Beta, dists[1].Alpha, dists[1].Beta.Beta)
+	}
+}
+
+// Reference values computed outside the project, in R 4.2.2 for this
+// scenario: each fit by optim (Nelder–Mead from a grid of starts over the
+// mean and α+β, then BFGS) over (log α, log β) minimising
+// Σ (pbeta(xᵢ, α, β) − pᵢ)², the least-squares criterion of O'Hagan et
+// al. 2006, §6.4; the pool mean as the mean of the two Beta means; the
+// pool SD from the mixture's second moment; the best single Beta of
+// question 1's pool by the same least squares at the pool's quantiles
+// k/100, k = 1…99, found with uniroot on the mixture CDF.
+var (
+	rFits = map[string][2]float64{
+		"Ada Invented/0": {4.082464871, 71.390988844}, // 5/50/95% at 0.02, 0.05, 0.15
+		"Bo Example/0":   {3.640118001, 38.297653692}, // 5/50/95% at 0.03, 0.08, 0.25
+		"Ada Invented/1": {4.350290072, 2.592772774},  // quartiles 0.5, 0.65, 0.75
+		"Bo Example/1":   {6.634857992, 2.978119789},  // quartiles 0.6, 0.7, 0.8
+	}
+	rPoolMean = [2]float64{0.07044473991, 0.6583822105}
+	rPoolSD   = 0.03905092981
+	rBestBeta = [2]float64{3.179853931, 42.7035154}
+)
+
+// nearRef compares got with an outside reference to a relative tolerance.
+func nearRef(t *testing.T, what string, got, want, rel float64) {
+	t.Helper()
+	if math.IsNaN(got) || math.Abs(got-want) > rel*math.Abs(want) {
+		t.Errorf("%s: got %.10g, reference %.10g (relative tolerance %g)", what, got, want, rel)
 	}
 }
 
