@@ -12,7 +12,7 @@ import (
 )
 
 // seeded is a harness signed in over a database holding the invented demo.
-func seeded(t *testing.T) (*harness, elicit.Workshop, []elicit.Question, []elicit.Expert, []DemoLink) {
+func seeded(t testing.TB) (*harness, elicit.Workshop, []elicit.Question, []elicit.Expert, []DemoLink) {
 	t.Helper()
 	h := newHarness(t)
 	h.signIn()

@@ -29,14 +29,14 @@ func TestMain(m *testing.M) {
 // listener, with a browser-like client (cookie jar, Origin on POSTs, no
 // redirect following so tests see the 303s).
 type harness struct {
-	t      *testing.T
+	t      testing.TB
 	db     *store.DB
 	srv    *Server
 	ts     *httptest.Server
 	client *http.Client
 }
 
-func newHarness(t *testing.T) *harness {
+func newHarness(t testing.TB) *harness {
 	t.Helper()
 	db, err := store.Open(filepath.Join(t.TempDir(), "parley.db"))
 	if err != nil {
