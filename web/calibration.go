@@ -1,0 +1,319 @@
+package web
+
+import (
+	"errors"
+	"net/http"
+	"net/url"
+	"strconv"
+
+	"github.com/go-chi/chi/v5"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// calibrationRoutes are a workshop's calibration pages: true values, the
+// scores of Cooke's classical model, and performance weights. They are
+// mounted inside /w/{workshop} by facilitatorRoutes.
+//
+//	GET  /w/{workshop}/calibration[?alpha=A]       questions, scores, robustness, pools side by side
+//	POST /w/{workshop}/calibration/q/{question}    enter or reveal a true value
+//	POST /w/{workshop}/calibration/weights         choose equal, performance or custom weights
+func (s *Server) calibrationRoutes(r chi.Router) {
+	r.Get("/calibration", s.calibrationPage)
+	r.Post("/calibration/q/{question}", s.setTrueValue)
+	r.Post("/calibration/weights", s.setCalibrationWeights)
+}
+
+func calibrationPath(ws int64) string { return workshopPath(ws) + "/calibration" }
+
+// seedRow is one calibration question on the page: who has answered, and
+// its true-value form.
+type seedRow struct {
+	Question    elicit.Question
+	Answered    []string
+	NotAnswered []string
+	Form        *Form
+}
+
+// calibrationView is the facilitator's calibration page.
+type calibrationView struct {
+	Workshop elicit.Workshop
+	Seeds    []seedRow
+	Skipped  []elicit.SkippedQuestion
+	Pending  int  // calibration questions still without a true value
+	Scored   int  // calibration questions the scores are computed on
+	Ready    bool // every calibration question scored has a true value
+	Probs    []float64
+
+	AlphaForm *Form
+	Perf      *elicit.Performance
+	PerfError string
+	Scores    []chart.ScoreRow
+
+	Robustness      *elicit.Robustness
+	RobustnessError string
+
+	Compare     []elicit.PoolComparison
+	Names       map[int64]string
+	Weights     elicit.Weights // in force
+	InForce     bool           // the weights in force are these performance weights
+	Experts     []elicit.Expert
+	WeightsForm *Form
+}
+
+// forms are the page's forms to show again with their errors; nil fields
+// are fresh.
+type calibrationForms struct {
+	truthFor int64 // the question whose truth form is shown again
+	truth    *Form
+	alpha    *Form
+	weights  *Form
+}
+
+func (s *Server) calibrationPage(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	af := newForm(r.URL.Query())
+	s.showCalibration(w, r, http.StatusOK, ws, calibrationForms{alpha: af})
+}
+
+// alphaOf parses the optional cut-off field: nil means optimise.
+func alphaOf(f *Form) *float64 {
+	v, ok := f.OptionalFloat("alpha")
+	if !ok {
+		return nil
+	}
+	if v < 0 || v > 1 {
+		f.set("alpha", string(elicit.RuleUnitInterval))
+		return nil
+	}
+	return &v
+}
+
+// showCalibration reads the workshop and renders the page. A bad cut-off
+// in forms.alpha answers 400 with the message beside the field.
+func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, forms calibrationForms) {
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if forms.alpha == nil {
+		forms.alpha = newForm(nil)
+	}
+	alpha := alphaOf(forms.alpha)
+	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	v := calibrationView{
+		Workshop: ws, Skipped: set.Skipped, Pending: len(set.Pending), Scored: len(set.Questions), Ready: set.Ready(), Probs: set.Probs,
+		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts, Names: map[int64]string{},
+	}
+	for _, e := range d.Experts {
+		v.Names[e.ID] = e.Name
+	}
+	for _, q := range d.Questions {
+		if !q.Calibration {
+			continue
+		}
+		row := seedRow{Question: q, Form: newForm(nil)}
+		if forms.truth != nil && forms.truthFor == q.ID {
+			row.Form = forms.truth
+		} else if q.TrueValue != nil {
+			row.Form.Values.Set("true_value", strconv.FormatFloat(*q.TrueValue, 'g', -1, 64))
+		}
+		answered := map[int64]bool{}
+		for _, e := range set.Answered[q.ID] {
+			answered[e.ID] = true
+			row.Answered = append(row.Answered, e.Name)
+		}
+		for _, e := range set.Experts {
+			if !answered[e.ID] {
+				row.NotAnswered = append(row.NotAnswered, e.Name)
+			}
+		}
+		v.Seeds = append(v.Seeds, row)
+	}
+	perf := map[int64]float64{}
+	if v.Ready && forms.alpha.OK() {
+		p, err := elicit.ScorePerformance(set, alpha)
+		if err != nil {
+			forms.alpha.Fail(err, nil)
+			v.PerfError = err.Error()
+		} else {
+			v.Perf = &p
+			perf = p.WeightsByExpert()
+			for _, e := range p.Experts {
+				if e.Answered > 0 {
+					v.Scores = append(v.Scores, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, Information: e.Information, Weight: e.Weight})
+				}
+			}
+			if inForce, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
+				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
+			}
+			if rb, err := elicit.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
+				v.RobustnessError = err.Error()
+			} else {
+				v.Robustness = &rb
+			}
+		}
+	}
+	if v.Ready {
+		v.Compare = elicit.ComparePools(d.Questions, d.Experts, d.Revisions, perf)
+	}
+	if !forms.alpha.OK() && status < 400 {
+		status = http.StatusBadRequest
+	}
+	v.WeightsForm = forms.weights
+	if v.WeightsForm == nil {
+		v.WeightsForm = freshWeightsForm(d.Weights, set.Experts, forms.alpha.Value("alpha"))
+	}
+	m := facilitatorMeta(ws, "Calibration: "+ws.Title, "calibration")
+	m.Caution = true
+	s.renderPage(w, r, status, m, calibrationPage(v))
+}
+
+func sameWeightMap(a, b map[int64]float64) bool {
+	if len(a) != len(b) {
+		return false
+	}
+	for id, x := range a {
+		if y, ok := b[id]; !ok || x-y > 1e-12 || y-x > 1e-12 {
+			return false
+		}
+	}
+	return true
+}
+
+// freshWeightsForm is the weights form filled with the weights in force.
+func freshWeightsForm(wt elicit.Weights, experts []elicit.Expert, alpha string) *Form {
+	f := newForm(nil)
+	f.Values.Set("scheme", string(wt.Scheme))
+	f.Values.Set("alpha", alpha)
+	for _, e := range experts {
+		x := 1.0
+		if wt.Scheme != elicit.WeightsEqual {
+			x = wt.ByExpert[e.ID]
+		}
+		f.Values.Set(weightField(e.ID), strconv.FormatFloat(x, 'g', -1, 64))
+	}
+	return f
+}
+
+// setTrueValue stores a calibration question's true value, strictly
+// inside the question's bounds, and reveals it to the experts when asked,
+// with a required reason (Store.SetTrueValue records the reveal).
+func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	if !q.Calibration {
+		f.set("", "Q"+strconv.Itoa(q.Position)+" is not a calibration question, so it has no true value.")
+		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{truthFor: q.ID, truth: f})
+		return
+	}
+	value := f.Float("true_value")
+	if f.Error("true_value") == "" && !(value > q.Lower && value < q.Upper) {
+		f.set("true_value", "must lie strictly inside the question's bounds ("+fv(q.Lower)+", "+fv(q.Upper)+")")
+	}
+	reveal := f.Checked("reveal")
+	reason := f.Text("reason", MaxLongText, reveal)
+	if f.OK() {
+		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)
+		if err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, nil)
+		}
+	}
+	if !f.OK() {
+		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{truthFor: q.ID, truth: f})
+		return
+	}
+	http.Redirect(w, r, calibrationPath(ws.ID)+"#seed-"+strconv.FormatInt(q.ID, 10), http.StatusSeeOther)
+}
+
+// setCalibrationWeights records the pool weights chosen on the
+// calibration page, with the required reason. Performance weights are the
+// classical model's weights on the experts' current answers with the
+// page's cut-off (optimised when empty); custom weights are typed per
+// expert, as on a question's panel.
+func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsPerformance), string(elicit.WeightsCustom)))
+	reason := f.Text("reason", MaxLongText, true)
+	alpha := alphaOf(f)
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	wt := elicit.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
+	switch scheme {
+	case elicit.WeightsPerformance:
+		set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+		if !set.Ready() {
+			f.set("scheme", "performance weights need every calibration question answered and given its true value")
+			break
+		}
+		if !f.OK() {
+			break
+		}
+		p, err := elicit.ScorePerformance(set, alpha)
+		if err != nil {
+			f.Fail(err, map[string]string{"experts": "scheme"})
+			break
+		}
+		wt.ByExpert = p.WeightsByExpert()
+	case elicit.WeightsCustom:
+		wt.ByExpert = map[int64]float64{}
+		for _, e := range d.Experts {
+			if e.Revoked {
+				continue
+			}
+			x := f.Float(weightField(e.ID))
+			if x < 0 {
+				f.set(weightField(e.ID), string(elicit.RuleNonNegative))
+			}
+			wt.ByExpert[e.ID] = x
+		}
+	}
+	if f.OK() {
+		if err := s.store.SetWeights(r.Context(), &wt); err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, map[string]string{"weights": "scheme", "weights.by_expert": "scheme", "by_expert": "scheme"})
+		}
+	}
+	if !f.OK() {
+		af := newForm(nil)
+		af.Values.Set("alpha", f.Value("alpha"))
+		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{weights: f, alpha: af})
+		return
+	}
+	target := calibrationPath(ws.ID)
+	if a := f.Value("alpha"); a != "" {
+		target += "?alpha=" + url.QueryEscape(a)
+	}
+	http.Redirect(w, r, target+"#weights", http.StatusSeeOther)
+}
+
+func isInputError(err error) bool {
+	var ie *elicit.InputError
+	return errors.As(err, &ie)
+}

@@ -1,0 +1,497 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// seedPanel is an invented panel on gasket wear with four experts (Bo
+// Lindh far too sure of himself), three calibration questions at 5/50/95
+// stored without true values, one calibration question at quartiles (left
+// out of the scores) and two target questions.
+type seedPanel struct {
+	h       *harness
+	ws      elicit.Workshop
+	experts []elicit.Expert
+	tokens  []string
+	seeds   []elicit.Question // the three 5/50/95 calibration questions
+	quart   elicit.Question
+	targets []elicit.Question
+}
+
+var (
+	seedTruths  = []float64{0.3172, 0.5431, 0.2186}
+	seedNames   = []string{"Ada Quist", "Bo Lindh", "Cem Arslan", "Dana Roe"}
+	seedAnswers = [][][]float64{ // expert → calibration question → 5/50/95
+		{{0.15, 0.30, 0.55}, {0.30, 0.50, 0.75}, {0.08, 0.20, 0.40}},
+		{{0.60, 0.62, 0.64}, {0.10, 0.12, 0.14}, {0.70, 0.72, 0.74}},
+		{{0.05, 0.35, 0.80}, {0.10, 0.45, 0.90}, {0.05, 0.30, 0.70}},
+		{{0.25, 0.34, 0.45}, {0.45, 0.56, 0.66}, {0.15, 0.24, 0.33}},
+	}
+	targetAnswers = [][][]float64{ // expert → target question → 5/50/95
+		{{0.02, 0.06, 0.15}, {0.10, 0.20, 0.35}},
+		{{0.20, 0.21, 0.22}, {0.50, 0.52, 0.54}},
+		{{0.01, 0.10, 0.40}, {0.05, 0.25, 0.60}},
+		{{0.03, 0.07, 0.12}, {0.12, 0.20, 0.30}},
+	}
+)
+
+func newSeedPanel(t *testing.T) *seedPanel {
+	t.Helper()
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	p := &seedPanel{h: h}
+	p.ws = elicit.Workshop{Title: "Gasket wear (invented)", Purpose: "Invented test panel", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &p.ws); err != nil {
+		t.Fatal(err)
+	}
+	add := func(q elicit.Question) elicit.Question {
+		q.WorkshopID, q.Lower, q.Upper, q.Format = p.ws.ID, 0, 1, elicit.FormatQuantiles
+		if q.Probs == nil {
+			q.Probs = []float64{0.05, 0.5, 0.95}
+		}
+		if err := h.db.AddQuestion(ctx, &q); err != nil {
+			t.Fatal(err)
+		}
+		return q
+	}
+	p.targets = append(p.targets, add(elicit.Question{Wording: "Share of gaskets worn out in year one?", Quantity: "worn share"}))
+	for i := range seedTruths {
+		p.seeds = append(p.seeds, add(elicit.Question{Wording: "Seed " + strconv.Itoa(i+1), Quantity: "seed share " + strconv.Itoa(i+1), Calibration: true}))
+	}
+	p.quart = add(elicit.Question{Wording: "Quartile seed", Quantity: "quartile seed share", Probs: elicit.ProbsQuartiles, Calibration: true})
+	p.targets = append(p.targets, add(elicit.Question{Wording: "Share of seals leaking in year one?", Quantity: "leak share"}))
+	for i, name := range seedNames {
+		token, hash, err := newToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := elicit.Expert{WorkshopID: p.ws.ID, Name: name}
+		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		p.experts, p.tokens = append(p.experts, e), append(p.tokens, token)
+		save := func(q elicit.Question, v []float64) {
+			rv := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: elicit.Answer{Values: v}}
+			if err := h.db.SaveRevision(ctx, &rv); err != nil {
+				t.Fatal(err)
+			}
+		}
+		for j, q := range p.seeds {
+			save(q, seedAnswers[i][j])
+		}
+		for j, q := range p.targets {
+			save(q, targetAnswers[i][j])
+		}
+		if i == 0 {
+			save(p.quart, []float64{0.3, 0.4, 0.5})
+		}
+	}
+	return p
+}
+
+func (p *seedPanel) path() string { return calibrationPath(p.ws.ID) }
+
+// enterTruths enters (and optionally reveals) every true value through the form.
+func (p *seedPanel) enterTruths(t *testing.T, reveal bool) {
+	t.Helper()
+	for i, q := range append(p.seeds, p.quart) {
+		v := 0.4410
+		if i < len(seedTruths) {
+			v = seedTruths[i]
+		}
+		form := url.Values{"true_value": {strconv.FormatFloat(v, 'g', -1, 64)}}
+		if reveal {
+			form.Set("reveal", "on")
+			form.Set("reason", "answers are in (invented)")
+		}
+		if res, body := p.h.post(seedPath(p.ws.ID, q.ID), form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("true value of %s: %d %s", q.Quantity, res.StatusCode, body)
+		}
+	}
+}
+
+// model is ClassicalModel on the test's own answers, built here without
+// NewCalibrationSet, with expert names as keys.
+func model(t *testing.T, alpha *float64) elicit.Scores {
+	t.Helper()
+	var as []elicit.SeedAssessment
+	real := map[string]float64{}
+	bounds := map[string][2]float64{}
+	for j, tv := range seedTruths {
+		q := "seed" + strconv.Itoa(j)
+		real[q], bounds[q] = tv, [2]float64{0, 1}
+		for i, name := range seedNames {
+			as = append(as, elicit.SeedAssessment{Expert: name, Question: q, Probs: []float64{0.05, 0.5, 0.95}, Quantiles: seedAnswers[i][j]})
+		}
+	}
+	sc, err := elicit.ClassicalModel(as, real, bounds, elicit.ModelOptions{Alpha: alpha})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sc
+}
+
+// rowCells returns the cells of the table row headed by label in the
+// first table after the element with id.
+func rowCells(t *testing.T, body, id, label string) []string {
+	t.Helper()
+	i := strings.Index(body, `id="`+id+`"`)
+	if i < 0 {
+		t.Fatalf("no element %q on the page", id)
+	}
+	j := strings.Index(body[i:], `<th scope="row">`+label+`</th>`)
+	if j < 0 {
+		t.Fatalf("no row %q in %q", label, id)
+	}
+	row := body[i+j:]
+	row = row[:strings.Index(row, "</tr>")]
+	var out []string
+	for _, m := range regexp.MustCompile(`<td[^>]*>([^<]*)`).FindAllStringSubmatch(row, -1) {
+		out = append(out, strings.TrimSpace(m[1]))
+	}
+	return out
+}
+
+func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	res, body := h.get(p.path())
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("page: %d", res.StatusCode)
+	}
+	for _, want := range []string{"Calibration questions", "no true value yet", "Answered by: Ada Quist, Bo Lindh, Cem Arslan, Dana Roe.",
+		"The scores appear once every calibration question has a true value: 3 questions still have none.", "Caution."} {
+		if !strings.Contains(body, want) {
+			t.Errorf("before truths: page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, `id="scores-table"`) {
+		t.Fatal("scores shown before the true values are in")
+	}
+
+	p.enterTruths(t, false)
+	res, body = h.get(p.path())
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("page: %d", res.StatusCode)
+	}
+	sc := model(t, nil)
+	for _, e := range sc.Experts {
+		got := rowCells(t, body, "scores-table", e.Expert)
+		want := []string{"3", fv(e.Calibration), fv(e.Information), fv(e.Combined), pct(e.Weight)}
+		if strings.Join(got, "|") != strings.Join(want, "|") {
+			t.Errorf("%s: row %v, want %v", e.Expert, got, want)
+		}
+	}
+	dm := rowCells(t, body, "scores-table", "Pooled decision maker (performance weights)")
+	if want := []string{"3", fv(sc.Pooled.Calibration), fv(sc.Pooled.Information), fv(sc.Pooled.Combined), "—"}; strings.Join(dm, "|") != strings.Join(want, "|") {
+		t.Errorf("decision maker row %v, want %v", dm, want)
+	}
+	if !strings.Contains(body, `<div class="chart-with-table chart-scores">`) || !strings.Contains(body, "<svg") {
+		t.Error("page lacks the scores chart")
+	}
+	for _, want := range []string{"Cut-off α = " + fv(sc.Alpha) + ", optimised",
+		"quartile seed share: asked at 25%, 50%, 75%; the scored questions ask at 5%, 50%, 95%",
+		"without calibration question Q2 seed share 1", "without expert Bo Lindh", "Largest shift",
+		"Target questions: equal weights beside performance weights", "hidden from the experts"} {
+		if !strings.Contains(body, htmlEscape(want)) {
+			t.Errorf("page lacks %q", want)
+		}
+	}
+	if regexp.MustCompile(`NaN|\bInf\b`).MatchString(body) {
+		t.Error("NaN or Inf on the page")
+	}
+	// Bo misses every time: his weight is 0 with the optimised cut-off.
+	for _, e := range sc.Experts {
+		if e.Expert == "Bo Lindh" && e.Weight != 0 {
+			t.Errorf("overconfident expert has weight %v", e.Weight)
+		}
+	}
+
+	// Side by side on a target: the equal pool and the performance pool,
+	// each LinearPool of the current fits.
+	w := sc.Weights()
+	for k, q := range p.targets {
+		var dists []elicit.ScaledBeta
+		var perf []float64
+		for i, name := range seedNames {
+			f, err := q.Fit(elicit.Answer{Values: targetAnswers[i][k]})
+			if err != nil {
+				t.Fatal(err)
+			}
+			dists, perf = append(dists, f.Dist), append(perf, w[name])
+		}
+		for _, c := range []struct {
+			label   string
+			weights []float64
+		}{{"equal", nil}, {"performance", perf}} {
+			pool, err := elicit.LinearPool(dists, c.weights)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want := []string{c.label, fv(pool.Mean()), fv(pool.Quantile(0.05)), fv(pool.Quantile(0.5)), fv(pool.Quantile(0.95))}
+			re := regexp.MustCompile(`Q` + strconv.Itoa(q.Position) + ` ` + q.Quantity + `</a></th><td>` + c.label + `</td>((?:<td class="num">[^<]*</td>){4})`)
+			m := re.FindStringSubmatch(body)
+			if m == nil {
+				t.Errorf("no %s pool row for %s", c.label, q.Quantity)
+				continue
+			}
+			got := regexp.MustCompile(`<td class="num">([^<]*)</td>`).FindAllStringSubmatch(m[1], -1)
+			for n, g := range got {
+				if g[1] != want[n+1] {
+					t.Errorf("%s, %s pool: cell %d is %s, want %s", q.Quantity, c.label, n, g[1], want[n+1])
+				}
+			}
+		}
+	}
+
+	// A fixed cut-off of 0 weights everyone by calibration × information.
+	zero := 0.0
+	sc0 := model(t, &zero)
+	res, body = h.get(p.path() + "?alpha=0")
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "Cut-off α = 0, fixed") {
+		t.Fatalf("alpha=0: %d", res.StatusCode)
+	}
+	for _, e := range sc0.Experts {
+		if got := rowCells(t, body, "scores-table", e.Expert); got[4] != pct(e.Weight) {
+			t.Errorf("α = 0: %s weight %s, want %s", e.Expert, got[4], pct(e.Weight))
+		}
+	}
+	// Bad cut-offs are refused beside the field.
+	for _, bad := range []string{"abc", "NaN", "1.5", "-0.1", "0.9999"} {
+		res, body := h.get(p.path() + "?alpha=" + url.QueryEscape(bad))
+		if res.StatusCode < 400 || res.StatusCode >= 500 || !hasFieldError(body, "alpha") || strings.Contains(body, `id="scores-table"`) {
+			t.Errorf("alpha=%s: %d, message beside alpha %v", bad, res.StatusCode, hasFieldError(body, "alpha"))
+		}
+	}
+}
+
+func TestTrueValueRefusedBesideTheField(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	q := p.seeds[0]
+	cases := []struct {
+		name, field string
+		form        url.Values
+	}{
+		{"empty", "true_value", url.Values{"true_value": {""}}},
+		{"not a number", "true_value", url.Values{"true_value": {"about 0.3"}}},
+		{"decimal comma", "true_value", url.Values{"true_value": {"0,3172"}}},
+		{"NaN", "true_value", url.Values{"true_value": {"NaN"}}},
+		{"on the upper bound", "true_value", url.Values{"true_value": {"1"}}},
+		{"on the lower bound", "true_value", url.Values{"true_value": {"0"}}},
+		{"below the bounds", "true_value", url.Values{"true_value": {"-0.2"}}},
+		{"reveal without reason", "reason", url.Values{"true_value": {"0.3172"}, "reveal": {"on"}, "reason": {" "}}},
+	}
+	for _, c := range cases {
+		before := h.counts(p.ws.ID)
+		res, body := h.post(seedPath(p.ws.ID, q.ID), c.form)
+		if res.StatusCode < 400 || res.StatusCode >= 500 {
+			t.Errorf("%s: status %d, want 4xx", c.name, res.StatusCode)
+			continue
+		}
+		if !hasFieldError(body, c.field) || !strings.Contains(body, "Nothing was saved") {
+			t.Errorf("%s: no message beside %s", c.name, c.field)
+		}
+		if typed := c.form.Get("true_value"); typed != "" && !strings.Contains(body, `value="`+htmlEscape(typed)+`"`) {
+			t.Errorf("%s: typed value %q not shown again", c.name, typed)
+		}
+		got, _ := h.db.Question(ctx, q.ID)
+		if got.TrueValue != nil || got.Revealed || h.counts(p.ws.ID) != before {
+			t.Errorf("%s: something was saved: %+v", c.name, got)
+		}
+	}
+	// A target question has no true value to set.
+	before := h.counts(p.ws.ID)
+	if res, _ := h.post(seedPath(p.ws.ID, p.targets[0].ID), url.Values{"true_value": {"0.5"}}); res.StatusCode != http.StatusUnprocessableEntity {
+		t.Errorf("true value on a target question: %d", res.StatusCode)
+	}
+	if got, _ := h.db.Question(ctx, p.targets[0].ID); got.TrueValue != nil || h.counts(p.ws.ID) != before {
+		t.Error("true value saved on a target question")
+	}
+	// A good value with reveal is stored and the reveal recorded.
+	if res, body := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0.3172"}, "reveal": {"on"}, "reason": {"all in (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("good value: %d %s", res.StatusCode, body)
+	}
+	got, _ := h.db.Question(ctx, q.ID)
+	if got.TrueValue == nil || *got.TrueValue != 0.3172 || !got.Revealed {
+		t.Fatalf("stored %+v", got)
+	}
+	evs, _ := h.db.Events(ctx, p.ws.ID)
+	if last := evs[len(evs)-1]; last.Kind != elicit.EventTruthRevealed || last.Reason != "all in (invented)" || last.QuestionID != q.ID {
+		t.Fatalf("last event %+v", last)
+	}
+}
+
+func TestPerformanceWeightsChangeThePool(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	// Not yet possible: the true values are missing.
+	before := h.counts(p.ws.ID)
+	res, body := h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"seeds scored (invented)"}})
+	if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "scheme") || h.counts(p.ws.ID) != before {
+		t.Fatalf("performance weights before the truths: %d", res.StatusCode)
+	}
+	p.enterTruths(t, false)
+	qp := questionPath(p.ws.ID, p.targets[0].ID)
+	_, panelBefore := h.get(qp)
+	// A reason is required.
+	before = h.counts(p.ws.ID)
+	res, body = h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {""}})
+	if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "reason") || h.counts(p.ws.ID) != before {
+		t.Fatalf("performance weights without reason: %d", res.StatusCode)
+	}
+	res, body = h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"Bo missed every seed (invented)"}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("performance weights: %d %s", res.StatusCode, body)
+	}
+	wt, _ := h.db.Weights(ctx, p.ws.ID)
+	sc := model(t, nil).Weights()
+	if wt.Scheme != elicit.WeightsPerformance || wt.Reason != "Bo missed every seed (invented)" {
+		t.Fatalf("stored weights %+v", wt)
+	}
+	for _, e := range p.experts {
+		if d := wt.ByExpert[e.ID] - sc[e.Name]; d > 1e-12 || d < -1e-12 {
+			t.Errorf("%s: stored weight %v, model %v", e.Name, wt.ByExpert[e.ID], sc[e.Name])
+		}
+	}
+	evs, _ := h.db.Events(ctx, p.ws.ID)
+	if last := evs[len(evs)-1]; last.Kind != elicit.EventWeightsSet || last.Reason != wt.Reason {
+		t.Fatalf("last event %+v", last)
+	}
+	// The target question's pool is now the performance-weighted one.
+	var dists []elicit.ScaledBeta
+	var ws []float64
+	for i, name := range seedNames {
+		f, _ := p.targets[0].Fit(elicit.Answer{Values: targetAnswers[i][0]})
+		dists, ws = append(dists, f.Dist), append(ws, sc[name])
+	}
+	perf, _ := elicit.LinearPool(dists, ws)
+	equal, _ := elicit.LinearPool(dists, nil)
+	_, panelAfter := h.get(qp)
+	if !strings.Contains(panelBefore, `<td class="num">`+fv(equal.Mean())+`</td>`) ||
+		!strings.Contains(panelAfter, `<td class="num">`+fv(perf.Mean())+`</td>`) ||
+		strings.Contains(panelAfter, `<td class="num">`+fv(equal.Mean())+`</td>`) {
+		t.Errorf("panel pool mean: want %s before and %s after", fv(equal.Mean()), fv(perf.Mean()))
+	}
+	_, body = h.get(p.path())
+	if !strings.Contains(body, "They are the performance weights shown above.") {
+		t.Error("calibration page does not say the performance weights are in force")
+	}
+	// Back to equal weights from the same form.
+	if res, _ := h.post(p.path()+"/weights", url.Values{"scheme": {"equal"}, "reason": {"compare (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("equal weights: %d", res.StatusCode)
+	}
+	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != elicit.WeightsEqual {
+		t.Fatalf("stored %+v", wt)
+	}
+}
+
+func TestReportAndExportCarryTheScores(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	p.enterTruths(t, false)
+	_, body := h.get(workshopPath(p.ws.ID) + "/report")
+	if !strings.Contains(body, "No scores in this record: scores are shown once every calibration question") {
+		t.Error("report does not say why there are no scores before the reveal")
+	}
+	for _, tv := range seedTruths {
+		if strings.Contains(body, fv(tv)) {
+			t.Errorf("report shows the unrevealed true value %v", tv)
+		}
+	}
+	p.enterTruths(t, true)
+	if res, _ := h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scored (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d", res.StatusCode)
+	}
+	sc := model(t, nil)
+	_, body = h.get(workshopPath(p.ws.ID) + "/report")
+	for _, e := range sc.Experts {
+		got := rowCells(t, body, "performance", e.Expert)
+		if len(got) < 5 || got[1] != fv(e.Calibration) || got[4] != pct(e.Weight) {
+			t.Errorf("report row %s: %v", e.Expert, got)
+		}
+	}
+	if !strings.Contains(body, "These are the weights in force.") || !strings.Contains(body, "Largest shift") {
+		t.Error("report lacks the weights-in-force line or the robustness table")
+	}
+	res, js := h.get(workshopPath(p.ws.ID) + "/export.json")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("export: %d", res.StatusCode)
+	}
+	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	if err != nil {
+		t.Fatal(err)
+	}
+	perf := rec.Performance
+	if perf == nil || perf.Alpha != sc.Alpha || !perf.InForce || perf.Robustness == nil || len(perf.Experts) != 4 {
+		t.Fatalf("exported performance %+v", perf)
+	}
+	w := sc.Weights()
+	for _, e := range perf.Experts {
+		if d := e.Weight - w[e.Name]; d > 1e-12 || d < -1e-12 {
+			t.Errorf("exported weight of %s %v, model %v", e.Name, e.Weight, w[e.Name])
+		}
+	}
+}
+
+func TestExpertPagesNeverShowTruthsOrScores(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	p.enterTruths(t, false)
+	if res, _ := h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scored (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d", res.StatusCode)
+	}
+	sc := model(t, nil)
+	var secrets []string
+	for _, e := range sc.Experts {
+		secrets = append(secrets, fv(e.Calibration), fv(e.Information), fv(e.Combined))
+	}
+	forbidden := []string{"Calibration ×", "calibration score", "Information", "Weight", "Cut-off", "decision maker"}
+	anon := newHarnessClient(h)
+	questions := append(append(append([]elicit.Question{}, p.seeds...), p.quart), p.targets...)
+	check := func(stage string, truthsHidden bool) {
+		for i, token := range p.tokens {
+			paths := []string{expertPath(token)}
+			for _, q := range questions {
+				paths = append(paths, expertPath(token)+"q/"+strconv.FormatInt(q.ID, 10))
+			}
+			for _, path := range paths {
+				res, body := anon.get(path)
+				if res.StatusCode != http.StatusOK {
+					t.Fatalf("%s: GET %s: %d", stage, path, res.StatusCode)
+				}
+				if truthsHidden {
+					for _, tv := range append(seedTruths, 0.4410) {
+						if strings.Contains(body, strconv.FormatFloat(tv, 'g', -1, 64)) || strings.Contains(body, fv(tv)) {
+							t.Errorf("%s: %s shows the hidden true value %v", stage, path, tv)
+						}
+					}
+				}
+				for _, s := range append(secrets, forbidden...) {
+					if strings.Contains(body, s) {
+						t.Errorf("%s: %s shows %q", stage, path, s)
+					}
+				}
+				for j, name := range seedNames {
+					if j != i && strings.Contains(body, name) {
+						t.Errorf("%s: %s names another expert, %s", stage, path, name)
+					}
+				}
+			}
+		}
+	}
+	check("before the reveal", true)
+	p.enterTruths(t, true)
+	check("after the reveal", false)
+}
