@@ -12,13 +12,20 @@ import (
 // successes (one float64 per count).
 const MaxPredictiveTrials = 1_000_000
 
+// MaxUpdateTrials is the largest number of trials Posterior accepts.
+// Beyond about 1e10, gonum's inverse of the regularised incomplete beta
+// function stops being monotone in p for β of that size (found by a fuzz
+// test of EqualTailed), so intervals of such posteriors could come out
+// reversed; 1e9 keeps a margin.
+const MaxUpdateTrials = 1_000_000_000
+
 // Posterior is the conjugate update of a Beta prior by binomial data,
 // s successes in n trials:
 //
 //	Beta(α, β) prior, s | θ ~ Binomial(n, θ)  ⇒  θ | s ~ Beta(α + s, β + n − s)
 //
 // (Gelman et al. 2013, "Bayesian Data Analysis", 3rd ed., §2.4). It needs
-// a valid prior and 0 ≤ s ≤ n.
+// a valid prior and 0 ≤ s ≤ n ≤ MaxUpdateTrials.
 func Posterior(prior Beta, successes, trials int) (Beta, error) {
 	if err := checkData(prior, successes, trials); err != nil {
 		return Beta{}, err
@@ -32,6 +39,9 @@ func checkData(prior Beta, successes, trials int) error {
 	}
 	if trials < 0 {
 		return inputErr("trials", RuleNonNegative, "got %d", trials)
+	}
+	if trials > MaxUpdateTrials {
+		return inputErr("trials", RuleCountRange, "%d is above the limit %d", trials, MaxUpdateTrials)
 	}
 	if successes < 0 {
 		return inputErr("successes", RuleNonNegative, "got %d", successes)

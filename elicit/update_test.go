@@ -113,6 +113,7 @@ func TestUpdateBadInput(t *testing.T) {
 		{"negative trials", func() error { _, err := Posterior(good, 0, -1); return err }, "trials", RuleNonNegative},
 		{"negative successes", func() error { _, err := Posterior(good, -1, 4); return err }, "successes", RuleNonNegative},
 		{"successes above trials", func() error { _, err := Posterior(good, 5, 4); return err }, "successes", RuleCountRange},
+		{"trials above limit", func() error { _, err := Posterior(good, 5, MaxUpdateTrials+1); return err }, "trials", RuleCountRange},
 		{"prior alpha zero", func() error { _, err := Posterior(Beta{0, 1}, 1, 4); return err }, "alpha", RulePositive},
 		{"prior beta NaN", func() error { _, err := Posterior(Beta{1, math.NaN()}, 1, 4); return err }, "beta", RuleFinite},
 		{"level NaN", func() error { _, _, err := EqualTailed(good, math.NaN()); return err }, "level", RuleFinite},
@@ -308,4 +309,28 @@ func TestHDINoWiderThanEqualTailed(t *testing.T) {
 			t.Errorf("%v: HDI width %v above equal-tailed %v", d, hi-lo, ehi-elo)
 		}
 	}
+}
+
+func FuzzHDI(f *testing.F) {
+	f.Add(2.0, 8.0, 0.95)
+	f.Add(1.0001, 3e4, 0.5)
+	f.Add(0.3, 0.4, 0.99)
+	f.Fuzz(func(t *testing.T, a, b, level float64) {
+		// Shapes up to 1e9, the range the package claims (MaxUpdateTrials).
+		if a > 1e9 || b > 1e9 {
+			return
+		}
+		d := Beta{a, b}
+		lo, hi, err := HDI(d, level)
+		if err != nil {
+			return
+		}
+		if math.IsNaN(lo) || math.IsNaN(hi) || lo < 0 || hi > 1 || lo > hi {
+			t.Fatalf("HDI(%v, %v) = [%v, %v]", d, level, lo, hi)
+		}
+		elo, ehi, err := EqualTailed(d, level)
+		if err != nil || math.IsNaN(elo) || math.IsNaN(ehi) || elo > ehi {
+			t.Fatalf("EqualTailed(%v, %v) = [%v, %v], %v", d, level, elo, ehi, err)
+		}
+	})
 }

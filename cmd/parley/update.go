@@ -14,10 +14,8 @@ func init() {
 	command("update", "update a Beta prior with binomial data (--alpha, --beta, --successes, --trials, [--level], --format)", runUpdate)
 }
 
-// maxTrials bounds --trials and --successes (twelve digits, the limit of
-// the shared whole-number parser) so counts stay exact in a
-// float64 and the output stays meaningful.
-const maxTrials = 999_999_999_999
+// maxTrials bounds --trials and --successes: elicit's own limit.
+const maxTrials = elicit.MaxUpdateTrials
 
 // updateOutput is the JSON of `parley update`; its keys are a public
 // contract.
