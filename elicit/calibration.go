@@ -41,17 +41,23 @@ type SeedAssessment struct {
 // Validate checks that the names are given, that Probs pass CheckProbs and
 // that there is one finite, strictly increasing quantile per probability.
 func (a SeedAssessment) Validate() error {
-	if a.Expert == "" {
-		return inputErr("expert", RuleRequired, "empty name")
-	}
-	if a.Question == "" {
-		return inputErr("question", RuleRequired, "empty name")
-	}
 	if len(a.Probs) == 0 {
 		return inputErr("probs", RuleCount, "need at least 1 probability, got 0")
 	}
 	if err := CheckProbs("probs", a.Probs); err != nil {
 		return err
+	}
+	return a.validateQuantiles()
+}
+
+// validateQuantiles checks the names and quantiles of an assessment whose
+// probabilities are known to be valid.
+func (a SeedAssessment) validateQuantiles() error {
+	if a.Expert == "" {
+		return inputErr("expert", RuleRequired, "empty name")
+	}
+	if a.Question == "" {
+		return inputErr("question", RuleRequired, "empty name")
 	}
 	if len(a.Quantiles) != len(a.Probs) {
 		return inputErr("quantiles", RuleLengthMatch, "%d probabilities, %d quantiles", len(a.Probs), len(a.Quantiles))
@@ -218,7 +224,13 @@ func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map
 	seen := map[[2]string]int{}
 	for i, a := range as {
 		field := func() string { return fmt.Sprintf("assessments[%d]", i) }
-		if err := a.Validate(); err != nil {
+		// The probabilities are checked in full once; the others must
+		// equal them.
+		check := a.validateQuantiles
+		if i == 0 || !sameFloats(a.Probs, s.probs) {
+			check = a.Validate
+		}
+		if err := check(); err != nil {
 			return nil, prefixField(field(), err)
 		}
 		if !sameFloats(a.Probs, s.probs) {

@@ -15,7 +15,7 @@ import (
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
-var p5_50_95 = []float64{0.05, 0.5, 0.95}
+var seedProbs = []float64{0.05, 0.5, 0.95}
 
 // pchisqRow is one row of testdata/r/pchisq_reference.csv, written by
 // testdata/r/pchisq_reference.R with R's pchisq (R 4.2.2, header line).
@@ -63,7 +63,7 @@ func rUpper(t *testing.T, rows []pchisqRow, df, x float64) float64 {
 	return 0
 }
 
-func relErr(got, want float64) float64 {
+func calRelErr(got, want float64) float64 {
 	if want == 0 {
 		return math.Abs(got)
 	}
@@ -77,7 +77,7 @@ func TestChiSquareAgainstR(t *testing.T) {
 		d := distuv.ChiSquared{K: r.df}
 		// Tolerance: relative 1e-12 on the tail we use, 1e-13 absolute on
 		// the CDF (common practice, no source).
-		if e := relErr(d.Survival(r.x), r.upper); e > 1e-12 && math.Abs(d.Survival(r.x)-r.upper) > 1e-300 {
+		if e := calRelErr(d.Survival(r.x), r.upper); e > 1e-12 && math.Abs(d.Survival(r.x)-r.upper) > 1e-300 {
 			t.Errorf("df %v x %v: upper tail %v, R %v (rel %g)", r.df, r.x, d.Survival(r.x), r.upper, e)
 		}
 		if math.Abs(d.CDF(r.x)-r.cdf) > 1e-13 {
@@ -94,8 +94,8 @@ func handSeeds() ([]SeedAssessment, map[string]float64) {
 	var as []SeedAssessment
 	for _, q := range []string{"q1", "q2", "q3", "q4"} {
 		as = append(as,
-			SeedAssessment{Expert: "A", Question: q, Probs: p5_50_95, Quantiles: []float64{2, 5, 8}},
-			SeedAssessment{Expert: "B", Question: q, Probs: p5_50_95, Quantiles: []float64{4, 5, 6}})
+			SeedAssessment{Expert: "A", Question: q, Probs: seedProbs, Quantiles: []float64{2, 5, 8}},
+			SeedAssessment{Expert: "B", Question: q, Probs: seedProbs, Quantiles: []float64{4, 5, 6}})
 	}
 	return as, real
 }
@@ -152,7 +152,7 @@ func TestClassicalModelByHand(t *testing.T) {
 		{"w_A", a.Weight, cA * iA / (cA*iA + cB*iB), 1e-6},
 		{"w_B", b.Weight, cB * iB / (cA*iA + cB*iB), 1e-6},
 	} {
-		if relErr(c.got, c.want) > c.tol {
+		if calRelErr(c.got, c.want) > c.tol {
 			t.Errorf("%s = %.10g, want %.10g", c.name, c.got, c.want)
 		}
 	}
@@ -163,15 +163,15 @@ func TestClassicalModelByHand(t *testing.T) {
 	}
 
 	// The same scores through the exported one-question functions.
-	if got, _ := CalibrationScore([]int{1, 1, 2, 0}, p5_50_95); relErr(got, cB) > 1e-12 {
+	if got, _ := CalibrationScore([]int{1, 1, 2, 0}, seedProbs); calRelErr(got, cB) > 1e-12 {
 		t.Errorf("CalibrationScore = %v, want %v", got, cB)
 	}
-	if got, _ := InformationScore([]float64{2, 5, 8}, p5_50_95, 1.4, 8.6); math.Abs(got-iA) > 1e-8 {
+	if got, _ := InformationScore([]float64{2, 5, 8}, seedProbs, 1.4, 8.6); math.Abs(got-iA) > 1e-8 {
 		t.Errorf("InformationScore = %v, want %v", got, iA)
 	}
 	// Widths 2, 3, 3, 2 on [0, 10]: I = 0.1 ln(0.05/0.2) + 0.9 ln(0.45/0.3)
 	// = −0.1386294 + 0.3649186 = 0.2262892 (by hand).
-	if got, _ := InformationScore([]float64{2, 5, 8}, p5_50_95, 0, 10); math.Abs(got-0.2262892) > 1e-7 {
+	if got, _ := InformationScore([]float64{2, 5, 8}, seedProbs, 0, 10); math.Abs(got-0.2262892) > 1e-7 {
 		t.Errorf("InformationScore on [0, 10] = %v, want 0.2262892", got)
 	}
 }
@@ -222,13 +222,13 @@ func TestCalibrationProperties(t *testing.T) {
 	}{
 		// s = p exactly: I(s, p) = 0, so C = 1 − F(0) = 1.
 		{"quartiles, two per bin", []float64{0.25, 0.5, 0.75}, []int{0, 0, 1, 1, 2, 2, 3, 3}, func(c float64) bool { return c == 1 }, "= 1"},
-		{"5/50/95, 1+9+9+1 of 20", p5_50_95, append(append(append([]int{0}, rep(1, 9)...), rep(2, 9)...), 3), func(c float64) bool { return c == 1 }, "= 1"},
+		{"5/50/95, 1+9+9+1 of 20", seedProbs, append(append(append([]int{0}, repeatBin(1, 9)...), repeatBin(2, 9)...), 3), func(c float64) bool { return c == 1 }, "= 1"},
 		{"tertiles, one per bin", []float64{1.0 / 3, 2.0 / 3}, []int{0, 1, 2}, func(c float64) bool { return math.Abs(c-1) < 1e-12 }, "≈ 1"},
 		// Every realisation outside the outer quantiles on 10 questions.
-		{"all above q95", p5_50_95, rep(3, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
-		{"all below q05", p5_50_95, rep(0, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
-		{"half below, half above", p5_50_95, append(rep(0, 5), rep(3, 5)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
-		{"all beyond q10/q90", []float64{0.1, 0.5, 0.9}, append(rep(0, 3), rep(3, 7)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"all above q95", seedProbs, repeatBin(3, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"all below q05", seedProbs, repeatBin(0, 10), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"half below, half above", seedProbs, append(repeatBin(0, 5), repeatBin(3, 5)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
+		{"all beyond q10/q90", []float64{0.1, 0.5, 0.9}, append(repeatBin(0, 3), repeatBin(3, 7)...), func(c float64) bool { return c < 1e-3 }, "< 1e-3"},
 	} {
 		as, real := seedsWithBins(c.probs, c.bins)
 		s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
@@ -241,7 +241,7 @@ func TestCalibrationProperties(t *testing.T) {
 	}
 }
 
-func rep(v, n int) []int {
+func repeatBin(v, n int) []int {
 	out := make([]int, n)
 	for i := range out {
 		out[i] = v
@@ -255,8 +255,8 @@ func TestInformationNarrower(t *testing.T) {
 	prev := -1.0
 	for _, half := range []float64{40, 20, 10, 5, 1, 0.1} {
 		as := []SeedAssessment{
-			{Expert: "N", Question: "q", Probs: p5_50_95, Quantiles: []float64{50 - half, 50, 50 + half}},
-			{Expert: "W", Question: "q", Probs: p5_50_95, Quantiles: []float64{0, 50, 100}},
+			{Expert: "N", Question: "q", Probs: seedProbs, Quantiles: []float64{50 - half, 50, 50 + half}},
+			{Expert: "W", Question: "q", Probs: seedProbs, Quantiles: []float64{0, 50, 100}},
 		}
 		s, err := ClassicalModel(as, map[string]float64{"q": 50}, nil, ModelOptions{})
 		if err != nil {
@@ -299,7 +299,7 @@ func randomSeeds(rng *rand.Rand, experts, questions int, probs []float64) ([]See
 
 func TestClassicalModelOrderInvariant(t *testing.T) {
 	rng := rand.New(rand.NewPCG(1, 2))
-	as, real := randomSeeds(rng, 6, 8, p5_50_95)
+	as, real := randomSeeds(rng, 6, 8, seedProbs)
 	want, err := ClassicalModel(as, real, nil, ModelOptions{})
 	if err != nil {
 		t.Fatal(err)
@@ -322,7 +322,7 @@ func TestClassicalModelOrderInvariant(t *testing.T) {
 func TestAlphaOptimisation(t *testing.T) {
 	for seed := uint64(1); seed <= 4; seed++ {
 		rng := rand.New(rand.NewPCG(seed, 7))
-		as, real := randomSeeds(rng, 5, 8, p5_50_95)
+		as, real := randomSeeds(rng, 5, 8, seedProbs)
 		opt, err := ClassicalModel(as, real, nil, ModelOptions{})
 		if err != nil {
 			t.Fatal(err)
@@ -379,7 +379,7 @@ func minGap(es []ExpertScore) float64 {
 
 func TestFixedAlpha(t *testing.T) {
 	rng := rand.New(rand.NewPCG(3, 4))
-	as, real := randomSeeds(rng, 5, 10, p5_50_95)
+	as, real := randomSeeds(rng, 5, 10, seedProbs)
 	zero := 0.0
 	s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
 	if err != nil {
@@ -392,7 +392,7 @@ func TestFixedAlpha(t *testing.T) {
 	}
 	total := 0.0
 	for _, e := range s.Experts {
-		if relErr(e.Weight, e.Calibration*e.Information/sum) > 1e-12 {
+		if calRelErr(e.Weight, e.Calibration*e.Information/sum) > 1e-12 {
 			t.Errorf("α = 0: %s weight %v, want %v", e.Expert, e.Weight, e.Calibration*e.Information/sum)
 		}
 		total += e.Weight
@@ -406,7 +406,7 @@ func TestFixedAlpha(t *testing.T) {
 	for i, e := range s.Experts {
 		cals[i] = e.Calibration
 	}
-	mid := median(cals)
+	mid := calMedian(cals)
 	s2, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &mid})
 	if err != nil {
 		t.Fatal(err)
@@ -424,12 +424,12 @@ func TestFixedAlpha(t *testing.T) {
 
 	// α above every calibration score is refused.
 	high := 1.0
-	if _, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &high}); !hasRule(err, RuleAlphaTooHigh) {
+	if _, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &high}); !calHasRule(err, RuleAlphaTooHigh) {
 		t.Errorf("α = 1: got %v, want %q", err, RuleAlphaTooHigh)
 	}
 }
 
-func median(v []float64) float64 {
+func calMedian(v []float64) float64 {
 	c := append([]float64(nil), v...)
 	for i := range c {
 		for j := i + 1; j < len(c); j++ {
@@ -441,7 +441,7 @@ func median(v []float64) float64 {
 	return c[len(c)/2]
 }
 
-func hasRule(err error, r Rule) bool {
+func calHasRule(err error, r Rule) bool {
 	var ie *InputError
 	return errors.As(err, &ie) && ie.Rule == r
 }
@@ -495,7 +495,7 @@ func TestDecisionMakerQuantiles(t *testing.T) {
 	cdf := func(x float64) float64 {
 		return wA*lin([]float64{1.4, 2, 5, 8, 8.6}, f, x) + wB*lin([]float64{1.4, 4, 5, 6, 8.6}, f, x)
 	}
-	for i, p := range p5_50_95 {
+	for i, p := range seedProbs {
 		lo, hi := 1.4, 8.6
 		for it := 0; it < 200; it++ {
 			m := (lo + hi) / 2
@@ -513,12 +513,12 @@ func TestDecisionMakerQuantiles(t *testing.T) {
 
 func TestPoolMinimalInformation(t *testing.T) {
 	answers := map[string][]float64{"A": {2, 5, 8}, "B": {4, 5, 6}}
-	d, err := PoolMinimalInformation(answers, p5_50_95, map[string]float64{"A": 1, "B": 0}, nil, 0)
+	d, err := PoolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 0}, nil, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
 	// Only A has weight: its own quantiles; range [1.4, 8.6] as by hand.
-	for i, p := range p5_50_95 {
+	for i, p := range seedProbs {
 		if got := d.Quantile(p); math.Abs(got-[]float64{2, 5, 8}[i]) > 1e-12 {
 			t.Errorf("quantile %v = %v", p, got)
 		}
@@ -527,7 +527,7 @@ func TestPoolMinimalInformation(t *testing.T) {
 		t.Errorf("range [%v, %v], want [1.4, 8.6]", d.Quantile(0), d.Quantile(1))
 	}
 	// Bounds cut the range: [0, 8] → [1.4, 8].
-	d, err = PoolMinimalInformation(answers, p5_50_95, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
+	d, err = PoolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -550,8 +550,8 @@ func TestPoolMinimalInformation(t *testing.T) {
 		{"non-increasing", map[string][]float64{"A": {2, 2, 8}}, map[string]float64{"A": 1}, RuleValueIncreasing},
 		{"none", nil, nil, RuleCount},
 	} {
-		_, err := PoolMinimalInformation(c.answers, p5_50_95, c.weights, nil, 0)
-		if !hasRule(err, c.rule) {
+		_, err := PoolMinimalInformation(c.answers, seedProbs, c.weights, nil, 0)
+		if !calHasRule(err, c.rule) {
 			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
 		}
 	}
@@ -656,17 +656,17 @@ func TestCalibrationScoreBadInput(t *testing.T) {
 		probs  []float64
 		rule   Rule
 	}{
-		{"wrong bins", []int{1, 2, 3}, p5_50_95, RuleCount},
-		{"no realisations", []int{0, 0, 0, 0}, p5_50_95, RuleCount},
-		{"negative", []int{1, -1, 0, 0}, p5_50_95, RuleNonNegative},
+		{"wrong bins", []int{1, 2, 3}, seedProbs, RuleCount},
+		{"no realisations", []int{0, 0, 0, 0}, seedProbs, RuleCount},
+		{"negative", []int{1, -1, 0, 0}, seedProbs, RuleNonNegative},
 		{"bad probs", []int{1, 1, 1, 1}, []float64{0.5, 0.5, 0.9}, RuleProbIncreasing},
 		{"no probs", []int{1}, nil, RuleCount},
 	} {
-		if _, err := CalibrationScore(c.counts, c.probs); !hasRule(err, c.rule) {
+		if _, err := CalibrationScore(c.counts, c.probs); !calHasRule(err, c.rule) {
 			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
 		}
 	}
-	if _, err := InformationScore([]float64{2, 5, 8}, p5_50_95, 2, 10); !hasRule(err, RuleValueInBounds) {
+	if _, err := InformationScore([]float64{2, 5, 8}, seedProbs, 2, 10); !calHasRule(err, RuleValueInBounds) {
 		t.Errorf("quantile on range end: got %v", err)
 	}
 }
@@ -678,7 +678,7 @@ func TestPartialAnswers(t *testing.T) {
 	// Z answers only q5, and misses it by far.
 	real["q5"] = 100
 	as = append(as,
-		SeedAssessment{Expert: "Z", Question: "q5", Probs: p5_50_95, Quantiles: []float64{1, 2, 3}})
+		SeedAssessment{Expert: "Z", Question: "q5", Probs: seedProbs, Quantiles: []float64{1, 2, 3}})
 	zero := 0.0
 	s0, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
 	if err != nil {
@@ -688,7 +688,7 @@ func TestPartialAnswers(t *testing.T) {
 	// One realisation above q95: s = (0, 0, 0, 1), I = ln(1/0.05),
 	// C = 1 − F_χ²(2 ln 20; 3), by the formula.
 	want := distuv.ChiSquared{K: 3}.Survival(2 * math.Log(20))
-	if z.N != 1 || relErr(z.Calibration, want) > 1e-12 || expertScore(t, s0, "A").N != 4 {
+	if z.N != 1 || calRelErr(z.Calibration, want) > 1e-12 || expertScore(t, s0, "A").N != 4 {
 		t.Errorf("Z: %+v, want N 1, calibration %v", z, want)
 	}
 	if s0.Pooled.N != 5 || s0.Questions[4].Question != "q5" || len(s0.Questions[4].Pooled) != 3 {

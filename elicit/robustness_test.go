@@ -11,7 +11,7 @@ import (
 // question-left-out case by hand from ClassicalModel and LinearPool.
 func TestLeaveOneOutBetaTargets(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 6))
-	as, real := randomSeeds(rng, 4, 6, p5_50_95)
+	as, real := randomSeeds(rng, 4, 6, seedProbs)
 	fits := map[string]ScaledBeta{
 		"expert00": {Beta: Beta{Alpha: 2, Beta: 30}, Lower: 0, Upper: 1},
 		"expert01": {Beta: Beta{Alpha: 3, Beta: 20}, Lower: 0, Upper: 1},
@@ -91,7 +91,7 @@ func TestLeaveOneOutNoDisagreement(t *testing.T) {
 	var as []SeedAssessment
 	for _, e := range []string{"X", "Y", "Z"} {
 		for q := range real {
-			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: p5_50_95, Quantiles: []float64{2, 5, 8}})
+			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: seedProbs, Quantiles: []float64{2, 5, 8}})
 		}
 	}
 	fit := ScaledBeta{Beta: Beta{Alpha: 2, Beta: 8}, Lower: 0, Upper: 1}
@@ -149,8 +149,8 @@ func TestLeaveOneOutSeedTargets(t *testing.T) {
 func TestLeaveOneOutEdgeCases(t *testing.T) {
 	// One expert: leaving them out leaves nothing to score.
 	as := []SeedAssessment{
-		{Expert: "solo", Question: "a", Probs: p5_50_95, Quantiles: []float64{1, 2, 3}},
-		{Expert: "solo", Question: "b", Probs: p5_50_95, Quantiles: []float64{1, 2, 3}},
+		{Expert: "solo", Question: "a", Probs: seedProbs, Quantiles: []float64{1, 2, 3}},
+		{Expert: "solo", Question: "b", Probs: seedProbs, Quantiles: []float64{1, 2, 3}},
 	}
 	rep, err := LeaveOneOut(as, map[string]float64{"a": 2.5, "b": 1.5}, nil, ModelOptions{}, nil)
 	if err != nil {
@@ -166,11 +166,11 @@ func TestLeaveOneOutEdgeCases(t *testing.T) {
 		"other": {Beta: Beta{Alpha: 2, Beta: 3}, Lower: 0, Upper: 2},
 	}}}
 	_, err = LeaveOneOut(as, map[string]float64{"a": 2.5, "b": 1.5}, nil, ModelOptions{}, bad)
-	if !hasRule(err, RuleSameBounds) || !strings.Contains(err.Error(), "targets[0]") {
+	if !calHasRule(err, RuleSameBounds) || !strings.Contains(err.Error(), "targets[0]") {
 		t.Errorf("mixed bounds: got %v", err)
 	}
 	// Bad model input is the classical model's error.
-	if _, err := LeaveOneOut(nil, nil, nil, ModelOptions{}, nil); !hasRule(err, RuleCount) {
+	if _, err := LeaveOneOut(nil, nil, nil, ModelOptions{}, nil); !calHasRule(err, RuleCount) {
 		t.Errorf("no assessments: got %v", err)
 	}
 }
