@@ -32,10 +32,7 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/export.csv", s.exportRecord("csv", false))
 		r.Get("/q/{question}/export.json", s.exportRecord("json", true))
 		r.Get("/q/{question}/export.csv", s.exportRecord("csv", true))
-		// calibration.go: true values, Cooke's classical model, performance weights.
-		if c, ok := any(s).(interface{ calibrationRoutes(chi.Router) }); ok {
-			c.calibrationRoutes(r)
-		}
+		s.calibrationRoutes(r) // calibration.go: true values, Cooke's classical model, performance weights
 	})
 }
 
