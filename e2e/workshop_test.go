@@ -211,6 +211,39 @@ func TestWorkshopInBrowser(t *testing.T) {
 	}
 	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2")
 
+	// Question 2: the panel agrees a consensus judgement in discussion.
+	// Values that go down are refused beside the field, nothing saved.
+	fac.open(wsURL)
+	fac.load("open question 2's panel", chromedp.Click(chromedp.CSS(`#questions tbody tr:nth-child(2) a[href*="/q/"]`)))
+	fac.sees("question 2 panel", "six-month repair survival", "No prior has been agreed for this question yet.")
+	consensus := func(values ...string) {
+		for i, v := range values {
+			fac.fill(agree, fmt.Sprintf("values[%d]", i), v)
+		}
+	}
+	fac.do("choose the consensus", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=consensus]`)))
+	consensus("0.7", "0.6", "0.8")
+	fac.fill(agree, "rationale", "The group agreed these quartiles after the discussion (invented).")
+	if st := fac.load("agree a decreasing consensus", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("a decreasing consensus judgement: status %d, want 422", st)
+	}
+	if msg := eval[string](fac, "the consensus message", `(document.querySelector('form[action$="/agree"] .field-invalid .field-error') || {innerText: ""}).innerText`); !strings.Contains(msg, "increase") {
+		t.Errorf("no message beside the consensus field that breaks the rule; got %q", msg)
+	}
+	if v := fac.value(agree + ` [name="values[0]"]`); v != "0.7" {
+		t.Errorf("the refused consensus lost its typed value: %q", v)
+	}
+	if n := len(agreedPriors(t, site)); n != 1 {
+		t.Fatalf("after a refused consensus there are %d agreed priors, want the 1 of question 1", n)
+	}
+	fac.do("choose the consensus", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=consensus]`)))
+	consensus("0.55", "0.68", "0.78")
+	fac.fill(agree, "rationale", "The group agreed these quartiles after the discussion (invented).")
+	if st := fac.load("agree the consensus", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("agree the consensus: status %d\n%s", st, clip(fac.text(), 2000))
+	}
+	fac.sees("consensus agreed", "Beta fitted to the panel's consensus judgement", "The group agreed these quartiles")
+
 	// The printable report, and the export linked from it, downloaded
 	// with the facilitator's own session.
 	fac.open(wsURL + "report")
@@ -282,17 +315,22 @@ type exported struct {
 				Dist exportedBeta `json:"dist"`
 			} `json:"best_beta"`
 		} `json:"pool"`
-		AgreedPrior *struct {
-			Source    string       `json:"source"`
-			Dist      exportedBeta `json:"dist"`
-			Rationale string       `json:"rationale"`
-			Round     int          `json:"round"`
-			Snippets  []struct {
-				Code string `json:"code"`
-			} `json:"snippets"`
-		} `json:"agreed_prior"`
+		AgreedPrior *exportedPrior `json:"agreed_prior"`
 	} `json:"questions"`
 	Revisions []json.RawMessage `json:"revisions"`
+}
+
+type exportedPrior struct {
+	Source    string       `json:"source"`
+	Dist      exportedBeta `json:"dist"`
+	Consensus *struct {
+		Values []float64 `json:"values"`
+	} `json:"consensus"`
+	Rationale string `json:"rationale"`
+	Round     int    `json:"round"`
+	Snippets  []struct {
+		Code string `json:"code"`
+	} `json:"snippets"`
 }
 
 type exportedBeta struct {
@@ -400,10 +438,8 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 		// components' means (definition of a mixture; common practice).
 		mixMean := (dists[0].Mean() + dists[1].Mean()) / 2
 		near(t, fmt.Sprintf("Q%d pool mean as the mean of the means", qi+1), gq.Pool.Mean, mixMean)
-		if qi != 0 {
-			if gq.AgreedPrior != nil {
-				t.Errorf("export: question 2 has an agreed prior the scenario never recorded")
-			}
+		if qi == 1 {
+			checkConsensus(t, q, gq.AgreedPrior)
 			continue
 		}
 		rep, err := pool.BestBeta()
@@ -433,6 +469,26 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 	}
 }
 
+// checkConsensus checks question 2's agreed prior: the Beta elicit fits
+// to the typed consensus quartiles, and R's.
+func checkConsensus(t *testing.T, q elicit.Question, ap *exportedPrior) {
+	t.Helper()
+	if ap == nil {
+		t.Fatalf("export: no agreed prior for question 2")
+	}
+	if ap.Source != string(elicit.PriorFromConsensus) || ap.Consensus == nil || !floatsEqual(ap.Consensus.Values, []float64{0.55, 0.68, 0.78}) {
+		t.Fatalf("export: question 2's prior: source %q, consensus %+v", ap.Source, ap.Consensus)
+	}
+	want, err := q.Fit(elicit.Answer{Values: ap.Consensus.Values})
+	if err != nil {
+		t.Fatal(err)
+	}
+	near(t, "consensus alpha", ap.Dist.Alpha, want.Dist.Alpha)
+	near(t, "consensus beta", ap.Dist.Beta, want.Dist.Beta.Beta)
+	nearRef(t, "consensus alpha against R", ap.Dist.Alpha, rConsensus[0], 1e-3)
+	nearRef(t, "consensus beta against R", ap.Dist.Beta, rConsensus[1], 1e-3)
+}
+
 // Reference values computed outside the project, in R 4.2.2 for this
 // scenario: each fit by optim (Nelder–Mead from a grid of starts over the
 // mean and α+β, then BFGS) over (log α, log β) minimising
@@ -451,6 +507,8 @@ var (
 	rPoolMean = [2]float64{0.07044473991, 0.6583822105}
 	rPoolSD   = 0.03905092981
 	rBestBeta = [2]float64{3.179853931, 42.7035154}
+	// question 2's consensus quartiles 0.55, 0.68, 0.78
+	rConsensus = [2]float64{5.160231741, 2.644221762}
 )
 
 // nearRef compares got with an outside reference to a relative tolerance.
