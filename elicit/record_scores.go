@@ -394,157 +394,84 @@ func ComparePools(questions []Question, experts []Expert, revisions []Revision, 
 	return out
 }
 
-// Robustness says how much the performance-weighted pools on the target
-// questions depend on any one calibration question or any one expert.
+// Robustness is LeaveOneOut on a workshop's calibration questions, with
+// the target questions' current fits as the targets, named by ID.
 type Robustness struct {
-	Rows []RobustnessRow `json:"rows"`
-	// Largest is the largest shift of any row at each percentile.
-	Largest Percentiles `json:"largest"`
+	// Targets are the IDs of the questions watched: the target questions
+	// with a fitted judgement, or the scored calibration questions when
+	// there are none.
+	Targets []int64         `json:"targets"`
+	Rows    []RobustnessRow `json:"rows"`
+	// Largest is the largest Shift of any row.
+	Largest float64 `json:"largest"`
 }
 
-// RobustnessRow is the classical model rerun without one calibration
-// question or one expert. Shift is the largest absolute change, over the
-// target questions, of the performance-weighted pool's 5th, 50th and 95th
-// percentiles from the full panel's; Error says why the rerun failed.
+// RobustnessRow is LeaveOneOutCase with the left-out question or expert
+// named by ID. Shifts[t] is the largest change of the pooled 5th, 50th or
+// 95th percentile on Targets[t], as a fraction of the question's range;
+// Shift is the largest over targets.
 type RobustnessRow struct {
-	LeftOut string         `json:"left_out"` // "question" or "expert"
-	ID      int64          `json:"id"`
-	Label   string         `json:"label"`
-	Alpha   float64        `json:"alpha"`
-	Weights []ExpertWeight `json:"weights"`
-	Shift   Percentiles    `json:"shift"`
-	Error   string         `json:"error,omitempty"`
+	LeftOut  string         `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
+	ID       int64          `json:"id"`
+	Label    string         `json:"label"`
+	Alpha    float64        `json:"alpha"`
+	Weights  []ExpertWeight `json:"weights"`
+	Shifts   []float64      `json:"shifts"`
+	Shift    float64        `json:"shift"`
+	Unpooled []int64        `json:"unpooled,omitempty"`
+	Error    string         `json:"error,omitempty"`
 }
 
-// What a robustness row leaves out.
-const (
-	LeftOutQuestion = "question"
-	LeftOutExpert   = "expert"
-)
-
-// PerformanceRobustness reruns ScorePerformance on set without each
-// scored calibration question and then without each scored expert, with
-// the same cut-off rule (alpha nil: optimised again on each rerun), and
-// compares the performance-weighted linear pools (LinearPool) of the
-// current fits on every target question with the full panel's — the
-// leave-one-out checks of the classical model's robustness (Cooke 1991,
-// "Experts in Uncertainty", §12.6; Cooke & Goossens 2008). An expert left
-// out is also left out of the target pools.
+// PerformanceRobustness runs LeaveOneOut on set with the cut-off alpha
+// (nil: optimised again on each rerun), watching the linear pools of the
+// active experts' current fits on the target questions.
 func PerformanceRobustness(set CalibrationSet, questions []Question, experts []Expert, revisions []Revision, alpha *float64) (Robustness, error) {
-	full, err := ScorePerformance(set, alpha)
+	labels := map[string]string{}
+	ids := map[string]int64{}
+	for _, q := range questions {
+		k := SeedQuestionKey(q.ID)
+		labels[k], ids[k] = fmt.Sprintf("Q%d %s", q.Position, q.Quantity), q.ID
+	}
+	for _, e := range set.Experts {
+		k := SeedExpertKey(e.ID)
+		labels[k], ids[k] = e.Name, e.ID
+	}
+	var targets []RobustnessTarget
+	for _, t := range fitTargets(questions, experts, revisions) {
+		if len(t.dists) == 0 {
+			continue
+		}
+		rt := RobustnessTarget{Question: SeedQuestionKey(t.q.ID), Fits: map[string]ScaledBeta{}}
+		for i, id := range t.ids {
+			rt.Fits[SeedExpertKey(id)] = t.dists[i]
+		}
+		targets = append(targets, rt)
+	}
+	rep, err := LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha}, targets)
 	if err != nil {
 		return Robustness{}, err
 	}
-	targets := fitTargets(questions, experts, revisions)
-	base := make([]*Percentiles, len(targets))
-	for i, t := range targets {
-		base[i] = poolPercentiles(t, full.WeightsByExpert(), 0)
+	rb := Robustness{Largest: rep.MaxShift, Targets: []int64{}, Rows: []RobustnessRow{}}
+	for _, t := range rep.Targets {
+		rb.Targets = append(rb.Targets, ids[t])
 	}
-	var rb Robustness
-	run := func(row RobustnessRow, sub CalibrationSet, without int64) {
-		p, err := ScorePerformance(sub, alpha)
-		if err != nil {
-			row.Error = err.Error()
-			rb.Rows = append(rb.Rows, row)
-			return
+	for _, c := range rep.Cases {
+		row := RobustnessRow{LeftOut: c.LeftOut, ID: ids[c.Name], Label: labels[c.Name], Alpha: c.Alpha,
+			Weights: []ExpertWeight{}, Shifts: c.Shifts, Shift: c.Shift, Error: c.Error}
+		if row.Shifts == nil {
+			row.Shifts = []float64{}
 		}
-		row.Alpha = p.Alpha
-		w := p.WeightsByExpert()
-		for _, e := range p.Experts {
-			row.Weights = append(row.Weights, ExpertWeight{ExpertID: e.ExpertID, Weight: e.Weight})
-		}
-		for i, t := range targets {
-			if base[i] == nil {
-				continue
+		for _, e := range set.Experts {
+			if w, ok := c.Weights[SeedExpertKey(e.ID)]; ok {
+				row.Weights = append(row.Weights, ExpertWeight{ExpertID: e.ID, Weight: w})
 			}
-			got := poolPercentiles(t, w, without)
-			if got == nil {
-				row.Error = fmt.Sprintf("Q%d: no expert with weight answered it", t.q.Position)
-				continue
-			}
-			row.Shift.P05 = math.Max(row.Shift.P05, math.Abs(got.P05-base[i].P05))
-			row.Shift.P50 = math.Max(row.Shift.P50, math.Abs(got.P50-base[i].P50))
-			row.Shift.P95 = math.Max(row.Shift.P95, math.Abs(got.P95-base[i].P95))
 		}
-		rb.Largest.P05 = math.Max(rb.Largest.P05, row.Shift.P05)
-		rb.Largest.P50 = math.Max(rb.Largest.P50, row.Shift.P50)
-		rb.Largest.P95 = math.Max(rb.Largest.P95, row.Shift.P95)
+		for _, u := range c.Unpooled {
+			row.Unpooled = append(row.Unpooled, ids[u])
+		}
 		rb.Rows = append(rb.Rows, row)
 	}
-	for _, q := range set.Questions {
-		row := RobustnessRow{LeftOut: LeftOutQuestion, ID: q.ID, Label: fmt.Sprintf("Q%d %s", q.Position, q.Quantity)}
-		if len(set.Questions) < 2 {
-			row.Error = "the only scored calibration question cannot be left out"
-			rb.Rows = append(rb.Rows, row)
-			continue
-		}
-		run(row, set.without(SeedQuestionKey(q.ID), ""), 0)
-	}
-	for _, e := range full.Experts {
-		if e.Answered == 0 {
-			continue
-		}
-		row := RobustnessRow{LeftOut: LeftOutExpert, ID: e.ExpertID, Label: e.Name}
-		sub := set.without("", SeedExpertKey(e.ExpertID))
-		if len(sub.Assessments) == 0 {
-			row.Error = "no other expert answered a calibration question"
-			rb.Rows = append(rb.Rows, row)
-			continue
-		}
-		run(row, sub, e.ExpertID)
-	}
 	return rb, nil
-}
-
-// without is the set less one question's or one expert's assessments
-// (by their model keys; "" leaves nothing out of that kind).
-func (c CalibrationSet) without(question, expert string) CalibrationSet {
-	out := c
-	out.Assessments = nil
-	for _, a := range c.Assessments {
-		if a.Question != question && a.Expert != expert {
-			out.Assessments = append(out.Assessments, a)
-		}
-	}
-	out.Questions = nil
-	for _, q := range c.Questions {
-		if SeedQuestionKey(q.ID) != question {
-			out.Questions = append(out.Questions, q)
-		}
-	}
-	if expert != "" {
-		out.Experts = nil
-		for _, e := range c.Experts {
-			if SeedExpertKey(e.ID) != expert {
-				out.Experts = append(out.Experts, e)
-			}
-		}
-	}
-	return out
-}
-
-// poolPercentiles are the 5/50/95 percentiles of t's linear pool with
-// weights w, leaving out expert without; nil when no expert has weight.
-func poolPercentiles(t targetFits, w map[int64]float64, without int64) *Percentiles {
-	var dists []ScaledBeta
-	var ws []float64
-	for i, id := range t.ids {
-		if id != without {
-			dists, ws = append(dists, t.dists[i]), append(ws, w[id])
-		}
-	}
-	if len(dists) == 0 {
-		return nil
-	}
-	pool, err := LinearPool(dists, ws)
-	if err != nil {
-		return nil
-	}
-	qs, err := pool.Quantiles([]float64{0.05, 0.5, 0.95})
-	if err != nil {
-		return nil
-	}
-	return &Percentiles{qs[0], qs[1], qs[2]}
 }
 
 func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {

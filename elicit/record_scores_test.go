@@ -315,8 +315,8 @@ func TestPerformanceRobustness(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rb.Rows) != 6 {
-		t.Fatalf("%d rows, want 3 questions + 3 experts", len(rb.Rows))
+	if len(rb.Rows) != 6 || len(rb.Targets) != 1 || rb.Targets[0] != 101 {
+		t.Fatalf("%d rows on targets %v, want 3 questions + 3 experts on question 101", len(rb.Rows), rb.Targets)
 	}
 	target := src.Questions[0]
 	fits := map[int64]ScaledBeta{}
@@ -330,8 +330,9 @@ func TestPerformanceRobustness(t *testing.T) {
 		}
 	}
 	// The pool's percentiles straight from ClassicalModel's weights and
-	// LinearPool, without the code under test.
-	percentiles := func(as []SeedAssessment, skipExpert int64) Percentiles {
+	// LinearPool, without the code under test; the target is on [0, 1],
+	// so shifts are absolute.
+	percentiles := func(as []SeedAssessment) []float64 {
 		sc, err := ClassicalModel(as, set.Realisations, set.Bounds, ModelOptions{})
 		if err != nil {
 			t.Fatal(err)
@@ -340,45 +341,48 @@ func TestPerformanceRobustness(t *testing.T) {
 		var ds []ScaledBeta
 		var ws []float64
 		for _, id := range []int64{1, 2, 3} {
-			if id != skipExpert {
-				ds, ws = append(ds, fits[id]), append(ws, w[SeedExpertKey(id)])
-			}
+			ds, ws = append(ds, fits[id]), append(ws, w[SeedExpertKey(id)])
 		}
 		pool, err := LinearPool(ds, ws)
 		if err != nil {
 			t.Fatal(err)
 		}
-		return Percentiles{pool.Quantile(0.05), pool.Quantile(0.5), pool.Quantile(0.95)}
+		return []float64{pool.Quantile(0.05), pool.Quantile(0.5), pool.Quantile(0.95)}
 	}
-	full := percentiles(set.Assessments, 0)
-	largest := Percentiles{}
+	full := percentiles(set.Assessments)
+	largest := 0.0
+	labels := map[string]bool{}
 	for _, row := range rb.Rows {
-		var as []SeedAssessment
-		var skip int64
-		for _, a := range set.Assessments {
-			if (row.LeftOut == LeftOutQuestion && a.Question == SeedQuestionKey(row.ID)) ||
-				(row.LeftOut == LeftOutExpert && a.Expert == SeedExpertKey(row.ID)) {
-				continue
-			}
-			as = append(as, a)
-		}
-		if row.LeftOut == LeftOutExpert {
-			skip = row.ID
-		}
+		labels[row.Label] = true
 		if row.Error != "" {
 			t.Errorf("%s %d: %s", row.LeftOut, row.ID, row.Error)
 			continue
 		}
-		got := percentiles(as, skip)
-		want := Percentiles{math.Abs(got.P05 - full.P05), math.Abs(got.P50 - full.P50), math.Abs(got.P95 - full.P95)}
-		const tol = 1e-9
-		if math.Abs(row.Shift.P05-want.P05) > tol || math.Abs(row.Shift.P50-want.P50) > tol || math.Abs(row.Shift.P95-want.P95) > tol {
-			t.Errorf("%s %d: shift %+v, want %+v", row.LeftOut, row.ID, row.Shift, want)
+		var as []SeedAssessment
+		for _, a := range set.Assessments {
+			if (row.LeftOut == LeaveOutQuestion && a.Question == SeedQuestionKey(row.ID)) ||
+				(row.LeftOut == LeaveOutExpert && a.Expert == SeedExpertKey(row.ID)) {
+				continue
+			}
+			as = append(as, a)
 		}
-		largest.P05, largest.P50, largest.P95 = math.Max(largest.P05, want.P05), math.Max(largest.P50, want.P50), math.Max(largest.P95, want.P95)
+		got := percentiles(as)
+		want := 0.0
+		for i := range got {
+			want = math.Max(want, math.Abs(got[i]-full[i]))
+		}
+		if math.Abs(row.Shift-want) > 1e-9 || len(row.Shifts) != 1 || math.Abs(row.Shifts[0]-want) > 1e-9 {
+			t.Errorf("%s %d: shift %v, want %v", row.LeftOut, row.ID, row.Shift, want)
+		}
+		largest = math.Max(largest, want)
 	}
-	if math.Abs(rb.Largest.P50-largest.P50) > 1e-9 || rb.Largest.P50 == 0 {
-		t.Errorf("largest %+v, want %+v (and not zero: leaving out A or C moves the pool)", rb.Largest, largest)
+	if math.Abs(rb.Largest-largest) > 1e-9 || rb.Largest == 0 {
+		t.Errorf("largest %v, want %v (and not zero: leaving out A or C moves the pool)", rb.Largest, largest)
+	}
+	for _, l := range []string{"Q2 s1", "Q3 s2", "Q4 s3", "A", "B", "C"} {
+		if !labels[l] {
+			t.Errorf("no row labelled %q", l)
+		}
 	}
 	rec, err := BuildRecord(src, t0)
 	if err != nil {

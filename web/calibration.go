@@ -55,9 +55,9 @@ type calibrationView struct {
 	RobustnessError string
 
 	Compare     []elicit.PoolComparison
-	Names       map[int64]string
-	Weights     elicit.Weights // in force
-	InForce     bool           // the weights in force are these performance weights
+	Labels      map[int64]string // "Q1 quantity" by question ID
+	Weights     elicit.Weights   // in force
+	InForce     bool             // the weights in force are these performance weights
 	Experts     []elicit.Expert
 	WeightsForm *Form
 }
@@ -108,10 +108,10 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 	v := calibrationView{
 		Workshop: ws, Skipped: set.Skipped, Pending: len(set.Pending), Scored: len(set.Questions), Ready: set.Ready(), Probs: set.Probs,
-		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts, Names: map[int64]string{},
+		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts, Labels: map[int64]string{},
 	}
-	for _, e := range d.Experts {
-		v.Names[e.ID] = e.Name
+	for _, q := range d.Questions {
+		v.Labels[q.ID] = "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
 	}
 	for _, q := range d.Questions {
 		if !q.Calibration {

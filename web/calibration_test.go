@@ -123,6 +123,15 @@ func (p *seedPanel) enterTruths(t *testing.T, reveal bool) {
 // NewCalibrationSet, with expert names as keys.
 func model(t *testing.T, alpha *float64) elicit.Scores {
 	t.Helper()
+	as, real, bounds := modelInput()
+	sc, err := elicit.ClassicalModel(as, real, bounds, elicit.ModelOptions{Alpha: alpha})
+	if err != nil {
+		t.Fatal(err)
+	}
+	return sc
+}
+
+func modelInput() ([]elicit.SeedAssessment, map[string]float64, map[string][2]float64) {
 	var as []elicit.SeedAssessment
 	real := map[string]float64{}
 	bounds := map[string][2]float64{}
@@ -133,11 +142,7 @@ func model(t *testing.T, alpha *float64) elicit.Scores {
 			as = append(as, elicit.SeedAssessment{Expert: name, Question: q, Probs: []float64{0.05, 0.5, 0.95}, Quantiles: seedAnswers[i][j]})
 		}
 	}
-	sc, err := elicit.ClassicalModel(as, real, bounds, elicit.ModelOptions{Alpha: alpha})
-	if err != nil {
-		t.Fatal(err)
-	}
-	return sc
+	return as, real, bounds
 }
 
 // rowCells returns the cells of the table row headed by label in the
@@ -200,7 +205,7 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 	}
 	for _, want := range []string{"Cut-off α = " + fv(sc.Alpha) + ", optimised",
 		"quartile seed share: asked at 25%, 50%, 75%; the scored questions ask at 5%, 50%, 95%",
-		"without calibration question Q2 seed share 1", "without expert Bo Lindh", "Largest shift",
+		"without calibration question Q2 seed share 1", "without expert Bo Lindh", "Largest of all",
 		"Target questions: equal weights beside performance weights", "hidden from the experts"} {
 		if !strings.Contains(body, htmlEscape(want)) {
 			t.Errorf("page lacks %q", want)
@@ -251,6 +256,35 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 				}
 			}
 		}
+	}
+
+	// The robustness rows equal elicit.LeaveOneOut on the same inputs.
+	var targets []elicit.RobustnessTarget
+	for k, q := range p.targets {
+		rt := elicit.RobustnessTarget{Question: q.Quantity, Fits: map[string]elicit.ScaledBeta{}}
+		for i, name := range seedNames {
+			f, _ := q.Fit(elicit.Answer{Values: targetAnswers[i][k]})
+			rt.Fits[name] = f.Dist
+		}
+		targets = append(targets, rt)
+	}
+	as, real, bounds := modelInput()
+	loo, err := elicit.LeaveOneOut(as, real, bounds, elicit.ModelOptions{}, targets)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range loo.Cases {
+		label := "without expert " + c.Name
+		if c.LeftOut == elicit.LeaveOutQuestion {
+			n, _ := strconv.Atoi(strings.TrimPrefix(c.Name, "seed"))
+			label = "without calibration question Q" + strconv.Itoa(p.seeds[n].Position) + " " + p.seeds[n].Quantity
+		}
+		if got := rowCells(t, body, "robustness", label); len(got) < 2 || got[0] != fv(c.Alpha) || got[1] != fv(c.Shift) {
+			t.Errorf("robustness row %q: %v, want α %s shift %s", label, got, fv(c.Alpha), fv(c.Shift))
+		}
+	}
+	if got := rowCells(t, body, "robustness", "Largest of all"); len(got) < 2 || got[1] != fv(loo.MaxShift) {
+		t.Errorf("largest shift %v, want %s", got, fv(loo.MaxShift))
 	}
 
 	// A fixed cut-off of 0 weights everyone by calibration × information.
@@ -422,7 +456,7 @@ func TestReportAndExportCarryTheScores(t *testing.T) {
 			t.Errorf("report row %s: %v", e.Expert, got)
 		}
 	}
-	if !strings.Contains(body, "These are the weights in force.") || !strings.Contains(body, "Largest shift") {
+	if !strings.Contains(body, "These are the weights in force.") || !strings.Contains(body, "Largest of all") {
 		t.Error("report lacks the weights-in-force line or the robustness table")
 	}
 	res, js := h.get(workshopPath(p.ws.ID) + "/export.json")
