@@ -238,6 +238,11 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: ruleSeedHeader,
 				Detail: "quantile columns are named qNN, e.g. q05, q50, q95"}
 		}
+		if len(m[1]) > 2 && strings.HasSuffix(m[1], "0") {
+			// q100 or q250 would read as 0.1 or 0.25: refuse the ambiguity.
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: ruleSeedHeader,
+				Detail: "the digits after q are the probability's decimals; drop the trailing 0"}
+		}
 		p, _ := strconv.ParseFloat("0."+m[1], 64)
 		if len(probs) > 0 && !(p > probs[len(probs)-1]) {
 			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: elicit.RuleProbIncreasing,
