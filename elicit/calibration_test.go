@@ -704,3 +704,20 @@ func TestPartialAnswers(t *testing.T) {
 		t.Errorf("α = %v: DM on %d questions, q5 %+v", cut, s1.Pooled.N, s1.Questions[4])
 	}
 }
+
+// TestNoScoredExperts: when every calibration score underflows to 0 no
+// cut-off leaves an expert with weight, and the model says so.
+func TestNoScoredExperts(t *testing.T) {
+	// 400 realisations above q95: 2·N·I = 800 ln 20 ≈ 2397, and
+	// 1 − F_χ²(2397; 3) ≈ e^−1198 underflows to 0.
+	as, real := seedsWithBins(seedProbs, repeatBin(3, 400))
+	var onlyE []SeedAssessment
+	for _, a := range as {
+		if a.Expert == "E" {
+			onlyE = append(onlyE, a)
+		}
+	}
+	if _, err := ClassicalModel(onlyE, real, nil, ModelOptions{}); !calHasRule(err, RuleNoScoredExperts) {
+		t.Errorf("got %v, want %q", err, RuleNoScoredExperts)
+	}
+}
