@@ -69,11 +69,11 @@ func TestWorkshopInBrowser(t *testing.T) {
 		t.Errorf("Ada: %d stated points drawn before any value was typed", n)
 	}
 	typeValues(ada, "0.02", "0.05", "0.12")
-	first := livePreview(t, ada, 3, nil)
+	first := livePreview(t, ada, 3, nil, "above 0.12")
 	risingLeftToRight(t, ada, first)
 	ada.sees("fit preview", "What your numbers imply", "1 in 20 chance the value is below 0.02", "above 0.12")
 	ada.fill(`form.answer-form`, "values[2]", "0.2")
-	second := livePreview(t, ada, 3, first)
+	second := livePreview(t, ada, 3, first, "above 0.2")
 	ada.sees("fit preview after a change", "above 0.2")
 	if second[2] == first[2] {
 		t.Errorf("Ada: the 95%% point did not move when its value went from 0.12 to 0.2: %v then %v", first, second)
@@ -123,7 +123,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 		t.Fatalf("a refused judgement was saved (%d revisions)", n)
 	}
 	typeValues(bo, "0.03", "0.08", "0.25")
-	livePreview(t, bo, 3, nil)
+	livePreview(t, bo, 3, nil, "above 0.25")
 	saveAnswer(t, bo)
 	// Question 2 by keyboard alone: Tab from field to field, Enter shows
 	// the fit.
@@ -178,7 +178,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	shots.take(ada, "06-expert-round2-panel")
 	before := ada.circles(previewCircles)
 	ada.fill(`form.answer-form`, "values[2]", "0.15")
-	livePreview(t, ada, 3, before)
+	livePreview(t, ada, 3, before, "above 0.15")
 	ada.fill(`form.answer-form`, "reason", "After the discussion I expect fewer late failures.")
 	saveAnswer(t, ada)
 	ada.sees("history", "After the discussion I expect fewer late failures.")
@@ -719,13 +719,18 @@ func typeValues(ex *person, values ...string) {
 // comes, the expert's fallback is the "Show the fit" button; that is
 // clicked so the scenario can go on, but the missing live preview is an
 // error.
-func livePreview(t *testing.T, ex *person, n int, before []point) []point {
+//
+// The preview must also say shows, a phrase of the read-back of the last
+// value typed, so a picture of a half-typed judgement is not taken for
+// the final one.
+func livePreview(t *testing.T, ex *person, n int, before []point, shows string) []point {
 	t.Helper()
 	beforeJSON, _ := json.Marshal(before)
 	expr := fmt.Sprintf(`(() => {
 		const cs = Array.from(document.querySelectorAll(%q)).map(c => ({x: parseFloat(c.getAttribute("cx")), y: parseFloat(c.getAttribute("cy"))}));
-		return cs.length === %d && JSON.stringify(cs) !== %q && !document.querySelector("#preview[aria-busy=true]");
-	})()`, previewCircles, n, string(beforeJSON))
+		const p = document.getElementById("preview");
+		return cs.length === %d && JSON.stringify(cs) !== %q && !!p && p.innerText.includes(%q) && !document.querySelector("#preview[aria-busy=true]");
+	})()`, previewCircles, n, string(beforeJSON), shows)
 	if err := ex.poll(5*time.Second, expr); err != nil {
 		t.Errorf("%s: the live preview did not redraw %d stated points within 5 s of typing (%v); using the Show the fit button", ex.name, n, err)
 		ex.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
