@@ -11,6 +11,24 @@ import (
 
 // facilitatorRoutes are the facilitator's pages; routes() mounts them
 // behind requireFacilitator. Every change is a POST.
+//
+//	GET  /                                   workshops, and the form to create one
+//	POST /workshops                          create a workshop
+//	GET  /w/{workshop}                       overview: questions, panel, who answered, rounds, record links
+//	POST /w/{workshop}/edit                  title, purpose, decision, notes
+//	GET  /w/{workshop}/questions/new         the add-question form
+//	POST /w/{workshop}/questions             add a question
+//	POST /w/{workshop}/experts               add an expert; shows their private link once
+//	POST /w/{workshop}/experts/{expert}/revoke   end an expert's access
+//	POST /w/{workshop}/experts/{expert}/reissue  new private link (old one stops working)
+//	POST /w/{workshop}/round                 action=close|open, reason (required to open)
+//	GET  /w/{workshop}/log                   decision log
+//	GET  /w/{workshop}/q/{question}          panel: fits, overlay chart, pool, weights, agreed prior, history
+//	POST /w/{workshop}/q/{question}/weights  scheme=equal|custom, weights[ID], reason
+//	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
+//	GET  /w/{workshop}/report                printable record
+//	GET  /w/{workshop}/export.json|.csv      downloads (elicit.BuildRecord), also per question under /q/{question}/
+//	     /w/{workshop}/calibration...        calibration.go
 func (s *Server) facilitatorRoutes(r chi.Router) {
 	r.Get("/", s.workshopList)
 	r.Post("/workshops", s.createWorkshop)
