@@ -118,6 +118,19 @@ func prefixField(prefix string, err error) error {
 
 func (p Pool) width() float64 { return p.Upper - p.Lower }
 
+// withLogBeta returns p with its cache of log B(αᵢ, βᵢ) filled in, for a
+// Pool that was not built by LinearPool (a literal, or decoded JSON).
+func (p Pool) withLogBeta() Pool {
+	if len(p.lnB) == len(p.Components) {
+		return p
+	}
+	p.lnB = make([]float64, len(p.Components))
+	for i, c := range p.Components {
+		p.lnB[i] = mathext.Lbeta(c.Dist.Alpha, c.Dist.Beta.Beta)
+	}
+	return p
+}
+
 // unitCDF is Σ wᵢ Iᵤ(αᵢ, βᵢ) at u in [0, 1].
 func (p Pool) unitCDF(u float64) float64 {
 	switch {
@@ -207,6 +220,7 @@ func (p Pool) Quantile(prob float64) float64 {
 	case prob >= 1:
 		return p.Upper
 	}
+	p = p.withLogBeta()
 	lo, hi, mid := p.componentRange(prob)
 	u, _, _, _ := p.quantileIn(prob, lo, hi, mid)
 	return p.Lower + p.width()*u
@@ -229,6 +243,7 @@ func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 	if len(probs) == 0 {
 		return out, nil
 	}
+	p = p.withLogBeta()
 	lo, hi, x0 := p.componentRange(probs[0])
 	for i, pr := range probs {
 		if i > 0 {

@@ -1,6 +1,7 @@
 package elicit
 
 import (
+	"encoding/json"
 	"math"
 	"strconv"
 	"strings"
@@ -422,5 +423,29 @@ func TestBestBetaWithQuantilesOnBounds(t *testing.T) {
 	}
 	if math.Abs(maxE-r.MaxCDFError) > 1e-15 {
 		t.Errorf("max CDF error %v, recomputed over the whole grid %v", r.MaxCDFError, maxE)
+	}
+}
+
+func TestPoolDecodedFromJSON(t *testing.T) {
+	// A Pool that went through JSON (as storage may keep it) has lost its
+	// cache and must still answer, with the same numbers.
+	p := mustPool(t, unitBetas(2, 8, 9, 3), []float64{1, 3})
+	data, err := json.Marshal(p)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var q Pool
+	if err := json.Unmarshal(data, &q); err != nil {
+		t.Fatal(err)
+	}
+	want, _ := p.Quantiles([]float64{0.1, 0.5, 0.9})
+	got, err := q.Quantiles([]float64{0.1, 0.5, 0.9})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range want {
+		if got[i] != want[i] || q.Quantile(0.5) != p.Quantile(0.5) {
+			t.Errorf("decoded pool quantile %v, want %v", got[i], want[i])
+		}
 	}
 }
