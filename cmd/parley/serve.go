@@ -98,6 +98,9 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if !isLoopback(host) {
 		fmt.Fprintf(stderr, "parley: WARNING: listening on %s, reachable from other machines on the network. "+
 			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", ln.Addr())
+		if ip := net.ParseIP(host); c.baseURL == "" && (host == "" || (ip != nil && ip.IsUnspecified())) {
+			fmt.Fprintln(stderr, "parley: links are printed for 127.0.0.1; pass --base-url http://THIS-MACHINE'S-ADDRESS:PORT so experts' links work on their own devices.")
+		}
 	}
 
 	srv, err := web.New(db, web.Options{
