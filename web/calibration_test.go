@@ -529,3 +529,22 @@ func TestExpertPagesNeverShowTruthsOrScores(t *testing.T) {
 	p.enterTruths(t, true)
 	check("after the reveal", false)
 }
+
+// TestDemoCalibrationScores checks that the invented demo has scores from
+// first start and that its overconfident expert earns no weight.
+func TestDemoCalibrationScores(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	res, body := h.get(calibrationPath(ws.ID))
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, `id="scores-table"`) {
+		t.Fatalf("demo calibration page: %d, scores shown %v", res.StatusCode, strings.Contains(body, `id="scores-table"`))
+	}
+	if got := rowCells(t, body, "scores-table", "Ole Brandt"); len(got) != 5 || got[0] != "4" || got[4] != "0%" {
+		t.Errorf("Ole Brandt's row %v, want 4 questions answered and weight 0%%", got)
+	}
+	if !strings.Contains(body, "share of returns from capacitor faults: asked at 25%, 50%, 75%") {
+		t.Error("the quartile calibration question is not noted as left out")
+	}
+	if regexp.MustCompile(`NaN|\bInf\b`).MatchString(body) {
+		t.Error("NaN or Inf on the demo calibration page")
+	}
+}

@@ -128,5 +128,8 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 			return nil, fmt.Errorf("web: demo answer: %w", err)
 		}
 	}
+	if err := seedDemoCalibration(ctx, st, ws.ID, es); err != nil { // demo_calibration.go
+		return nil, err
+	}
 	return links, nil
 }
