@@ -11,6 +11,10 @@ import (
 // are not all on the same bounds [lower, upper].
 const RuleSameBounds Rule = "all distributions must share the same bounds"
 
+// RuleWeightsSumToOne is broken by a Pool whose weights do not sum to 1
+// (within 1e-9); LinearPool always normalises them.
+const RuleWeightsSumToOne Rule = "pool weights must sum to 1"
+
 // Component is one expert's distribution in a pool with its normalised
 // weight.
 type Component struct {
@@ -24,7 +28,7 @@ type Component struct {
 //	f(x) = Σᵢ wᵢ fᵢ(x),  F(x) = Σᵢ wᵢ Fᵢ(x),  Σᵢ wᵢ = 1,
 //
 // of the components on one shared [Lower, Upper]. Build it with
-// LinearPool; the zero value has no components.
+// LinearPool; the zero value has no components and is invalid.
 type Pool struct {
 	Components []Component `json:"components"`
 	Lower      float64     `json:"lower"`
@@ -116,6 +120,38 @@ func prefixField(prefix string, err error) error {
 	return err
 }
 
+// Validate checks a Pool that was not built by LinearPool (a literal, or
+// decoded JSON): at least one component, each a valid Beta on the pool's
+// bounds, weights finite and non-negative and summing to 1 within 1e-9.
+// Quantiles and BestBeta return its error; CDF, PDF and Quantile return
+// NaN for an invalid Pool rather than let gonum panic.
+func (p Pool) Validate() error {
+	if len(p.Components) == 0 {
+		return inputErr("experts", RuleCount, "the pool has no components")
+	}
+	var sum float64
+	for i, c := range p.Components {
+		f := fmt.Sprintf("experts[%d]", i)
+		if err := c.Dist.Validate(); err != nil {
+			return prefixField(f, err)
+		}
+		if c.Dist.Lower != p.Lower || c.Dist.Upper != p.Upper {
+			return inputErr(f+".lower", RuleSameBounds, "[%v, %v] differs from [%v, %v]", c.Dist.Lower, c.Dist.Upper, p.Lower, p.Upper)
+		}
+		if math.IsNaN(c.Weight) || math.IsInf(c.Weight, 0) {
+			return inputErr(fmt.Sprintf("weights[%d]", i), RuleFinite, "got %v", c.Weight)
+		}
+		if c.Weight < 0 {
+			return inputErr(fmt.Sprintf("weights[%d]", i), RuleNonNegative, "got %v", c.Weight)
+		}
+		sum += c.Weight
+	}
+	if math.Abs(sum-1) > 1e-9 {
+		return inputErr("weights", RuleWeightsSumToOne, "sum %v", sum)
+	}
+	return nil
+}
+
 func (p Pool) width() float64 { return p.Upper - p.Lower }
 
 // withLogBeta returns p with its cache of log B(αᵢ, βᵢ) filled in, for a
@@ -169,6 +205,9 @@ func (p Pool) unitDensity(u float64) (f, df, d2f float64) {
 
 // PDF is the pooled density Σ wᵢ fᵢ(x); 0 outside [Lower, Upper].
 func (p Pool) PDF(x float64) float64 {
+	if p.Validate() != nil {
+		return math.NaN()
+	}
 	var s float64
 	for _, c := range p.Components {
 		s += c.Weight * c.Dist.PDF(x)
@@ -177,7 +216,12 @@ func (p Pool) PDF(x float64) float64 {
 }
 
 // CDF is the pooled probability P(X ≤ x) = Σ wᵢ Fᵢ(x).
-func (p Pool) CDF(x float64) float64 { return p.unitCDF((x - p.Lower) / p.width()) }
+func (p Pool) CDF(x float64) float64 {
+	if p.Validate() != nil {
+		return math.NaN()
+	}
+	return p.unitCDF((x - p.Lower) / p.width())
+}
 
 // Mean is Σ wᵢ μᵢ, the weighted mean of the components' means.
 func (p Pool) Mean() float64 {
@@ -211,7 +255,7 @@ func (p Pool) SD() float64 { return math.Sqrt(p.Variance()) }
 // Σ wᵢ Fᵢ(minᵢ qᵢ) ≤ prob ≤ Σ wᵢ Fᵢ(maxᵢ qᵢ). It returns Lower for
 // prob ≤ 0 and Upper for prob ≥ 1, and NaN for a pool with no components.
 func (p Pool) Quantile(prob float64) float64 {
-	if len(p.Components) == 0 || math.IsNaN(prob) {
+	if p.Validate() != nil || math.IsNaN(prob) {
 		return math.NaN()
 	}
 	switch {
@@ -236,8 +280,8 @@ func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 	if err := CheckProbs("probs", probs); err != nil {
 		return nil, err
 	}
-	if len(p.Components) == 0 {
-		return nil, inputErr("experts", RuleCount, "the pool has no components")
+	if err := p.Validate(); err != nil {
+		return nil, err
 	}
 	out := make([]float64, len(probs))
 	if len(probs) == 0 {

@@ -449,3 +449,38 @@ func TestPoolDecodedFromJSON(t *testing.T) {
 		}
 	}
 }
+
+func TestPoolValidate(t *testing.T) {
+	good := Component{Dist: Unit(Beta{2, 3}), Weight: 1}
+	tests := []struct {
+		name  string
+		p     Pool
+		field string
+		rule  Rule
+	}{
+		{"empty", Pool{Lower: 0, Upper: 1}, "experts", RuleCount},
+		{"bad alpha", Pool{Components: []Component{{Dist: Unit(Beta{0, 3}), Weight: 1}}, Upper: 1}, "experts[0].alpha", RulePositive},
+		{"other bounds", Pool{Components: []Component{good}, Lower: 0, Upper: 2}, "experts[0].lower", RuleSameBounds},
+		{"NaN weight", Pool{Components: []Component{{Dist: good.Dist, Weight: math.NaN()}}, Upper: 1}, "weights[0]", RuleFinite},
+		{"negative weight", Pool{Components: []Component{good, {Dist: good.Dist, Weight: -0.5}}, Upper: 1}, "weights[1]", RuleNonNegative},
+		{"sum not 1", Pool{Components: []Component{good, good}, Upper: 1}, "weights", RuleWeightsSumToOne},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			wantRule(t, tc.p.Validate(), tc.field, tc.rule)
+			_, err := tc.p.Quantiles([]float64{0.5})
+			wantRule(t, err, tc.field, tc.rule)
+			if _, err := tc.p.BestBeta(); err == nil {
+				t.Error("BestBeta: no error")
+			}
+			for _, v := range []float64{tc.p.CDF(0.5), tc.p.PDF(0.5), tc.p.Quantile(0.5)} {
+				if !math.IsNaN(v) {
+					t.Errorf("invalid pool gave %v, want NaN", v)
+				}
+			}
+		})
+	}
+	if err := mustPool(t, unitBetas(2, 3, 4, 5), []float64{1, 2}).Validate(); err != nil {
+		t.Errorf("LinearPool's pool: %v", err)
+	}
+}
