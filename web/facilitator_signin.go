@@ -2,6 +2,7 @@ package web
 
 import (
 	"net/http"
+	"strings"
 )
 
 func (s *Server) signInForm(w http.ResponseWriter, r *http.Request) {
@@ -15,9 +16,10 @@ func (s *Server) signIn(w http.ResponseWriter, r *http.Request) {
 	if !parseForm(w, r) {
 		return
 	}
-	secret := r.PostForm.Get("secret")
+	secret := strings.TrimSpace(r.PostForm.Get("secret"))
 	ok := false
-	if h, valid := tokenHash(secret); valid && h != nil {
+	// Only a string shaped like a Parley secret is worth a bcrypt comparison.
+	if _, valid := tokenHash(secret); valid {
 		var err error
 		if ok, err = s.checkSecret(r.Context(), secret); err != nil {
 			s.fail(w, r, err)
