@@ -144,15 +144,20 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	defer hs.Close()
 	base := "http://" + ln.Addr().String()
 	cl := newClient(size.clients)
+	// On a shared machine a request may wait long for a CPU; the run as a
+	// whole is bounded by size.limit instead of each request by a timeout.
+	cl.Timeout = 0
 
 	lat := &latencies{d: map[string][]time.Duration{}}
 	var (
 		mu       sync.Mutex
-		failures []string
+		failures []string // the first 20
+		nfail    int
 		acked    = map[savedKey][]float64{}
 	)
 	fail := func(format string, args ...any) {
 		mu.Lock()
+		nfail++
 		if len(failures) < 20 {
 			failures = append(failures, fmt.Sprintf(format, args...))
 		}
@@ -255,9 +260,11 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	mu.Lock()
 	defer mu.Unlock()
 	if len(failures) > 0 {
-		tb.Errorf("%d kinds of failure, first ones:\n%s\nserver log:\n%s", len(failures), strings.Join(failures, "\n"), logs.tail(2000))
+		tb.Errorf("%d requests failed, the first:\n%s\nserver log:\n%s", nfail, strings.Join(failures, "\n"), logs.tail(2000))
 	}
-	revs, err := db.Revisions(ctx, ws.workshopID)
+	// The checks read with a fresh context: ctx may have run out.
+	check := context.Background()
+	revs, err := db.Revisions(check, ws.workshopID)
 	if err != nil {
 		tb.Fatal(err)
 	}
@@ -279,7 +286,7 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	if len(acked) != want || len(revs) != len(acked) || lost != 0 {
 		tb.Errorf("saves: %d expected, %d acknowledged, %d stored, %d acknowledged but lost", want, len(acked), len(revs), lost)
 	}
-	if verdict, err := db.IntegrityCheck(ctx); err != nil || verdict != "ok" {
+	if verdict, err := db.IntegrityCheck(check); err != nil || verdict != "ok" {
 		tb.Errorf("integrity check after load: %q, %v", verdict, err)
 	}
 
@@ -344,13 +351,17 @@ func writeLoadReport(tb testing.TB, r loadResult) string {
 // TestWorkshopLoad plays a reduced workshop against a real server and
 // database, still at 64 concurrent clients: zero errors and zero lost
 // revisions are asserted; the latencies are reported, never asserted.
-// The full workshop of issue 4 (200 experts x 10 questions) costs
-// minutes of CPU on two cores, so it runs in BenchmarkWorkshopLoad:
+// It plays 4 questions (2 with -short, 1 with -race). The full workshop
+// of issue 4 (200 experts x 10 questions) costs minutes of CPU on two
+// cores, so it runs in BenchmarkWorkshopLoad:
 //
 //	go test ./systemtest -run '^$' -bench WorkshopLoad -benchtime 1x
 func TestWorkshopLoad(t *testing.T) {
 	size := loadSize{experts: 64, questions: 4, rounds: 2, clients: 64, limit: 3 * time.Minute}
-	if raceOn || testing.Short() {
+	switch {
+	case raceOn:
+		size.questions = 1
+	case testing.Short():
 		size.questions = 2
 	}
 	if n, err := strconv.Atoi(os.Getenv("PARLEY_LOAD_EXPERTS")); err == nil && n > 0 {
