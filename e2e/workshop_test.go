@@ -166,7 +166,8 @@ func TestWorkshopInBrowser(t *testing.T) {
 	fac.sees("round refused", "is required", "Round 1 (closed)")
 	fac.fill(`#rounds form`, "reason", "The panel discussed the spread of the 95% values.")
 	fac.load("open round 2", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`)))
-	fac.sees("round 2", "Round 2 (open)")
+	fac.sees("round 2", "Round 2 (open)", "Who has answered what in round 2")
+	shots.take(fac, "08-facilitator-workshop-round2")
 
 	// Ada revises, seeing the panel without names.
 	openQuestion(t, ada, linkA, 1)
@@ -266,6 +267,12 @@ func TestWorkshopInBrowser(t *testing.T) {
 	if strings.HasPrefix(strings.TrimSpace(leak), "{") {
 		t.Errorf("an expert's browser downloaded the facilitator's export")
 	}
+	// The decision log says what the facilitator decided, and why.
+	fac.open(wsURL + "log")
+	fac.sees("decision log", "The panel discussed the spread of the 95% values.", rationale,
+		"The group agreed these quartiles after the discussion (invented).")
+	shots.take(fac, "09-decision-log")
+	fac.open(wsURL + "report")
 	fac.media("print")
 	if fac.visible(`form`) || fac.visible(`nav`) {
 		t.Errorf("the printed report still shows the navigation or a form")
