@@ -10,6 +10,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -192,13 +193,15 @@ func TestSecurityHeadersOnEveryResponse(t *testing.T) {
 // TestNoInlineScriptOrStyle renders the facilitator's pages and checks
 // they carry nothing the CSP would block.
 func TestNoInlineScriptOrStyle(t *testing.T) {
-	h := newHarness(t)
-	h.signIn()
-	ws := h.newWorkshop("Inline check")
+	h, ws, qs, _, links := seeded(t)
 	h.addExpert(ws, "A. Expert")
-	inline := regexp.MustCompile(`(?i)<script>|<script\s+[^>]*>[^<]+</script>|\sstyle=|<style|\son[a-z]+=`)
-	for _, path := range []string{"/", "/signin", workshopPath(ws.ID), workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/log"} {
-		_, body := h.get(path)
+	inline := regexp.MustCompile(`(?i)<script>|<script\s+[^>]*>[^<]+</script>|\sstyle=|<style|\son[a-z]+=|javascript:`)
+	for _, path := range []string{"/", "/signin", workshopPath(ws.ID), workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/log",
+		questionPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/report", links[0].Path, links[0].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)} {
+		res, body := h.get(path)
+		if res.StatusCode != http.StatusOK {
+			t.Errorf("%s: status %d", path, res.StatusCode)
+		}
 		if m := inline.FindString(body); m != "" {
 			t.Errorf("%s: inline script or style %q", path, m)
 		}
