@@ -272,11 +272,12 @@ func (p Performance) matches(w Weights) bool {
 }
 
 // PerformanceInForce scores set and, when the workshop's weights w are
-// performance weights, finds the cut-off that reproduces them: weights
-// change only where α passes an expert's calibration score, so the
-// candidates are those scores. Without such weights, or when the answers
-// have changed since they were set, the cut-off is the optimised one and
-// InForce is false.
+// performance weights, finds the smallest cut-off that reproduces them:
+// weights change only where α passes an expert's calibration score, so
+// the candidates are 0 and those scores, and any α the facilitator fixed
+// gives the weights of one of them. Without such weights, or when the
+// answers have changed since they were set, the cut-off is the optimised
+// one and InForce is false.
 func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 	opt, err := ScorePerformance(set, nil)
 	if err != nil {
@@ -289,7 +290,7 @@ func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 		opt.InForce = true
 		return opt, nil
 	}
-	var cands []float64
+	cands := []float64{0}
 	for _, e := range opt.Experts {
 		if e.Combined > 0 {
 			cands = append(cands, e.Calibration)

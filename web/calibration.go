@@ -302,7 +302,9 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 	}
 	if !f.OK() {
 		af := newForm(nil)
-		af.Values.Set("alpha", f.Value("alpha"))
+		if f.Error("alpha") == "" {
+			af.Values.Set("alpha", f.Value("alpha"))
+		}
 		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{weights: f, alpha: af})
 		return
 	}

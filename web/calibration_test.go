@@ -548,3 +548,56 @@ func TestDemoCalibrationScores(t *testing.T) {
 		t.Error("NaN or Inf on the demo calibration page")
 	}
 }
+
+func TestCalibrationCustomAndFixedCutOffWeights(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	p.enterTruths(t, false)
+	custom := url.Values{"scheme": {"custom"}, "reason": {"kept reason (invented)"}}
+	for i, e := range p.experts {
+		custom.Set(weightField(e.ID), []string{"2", "-1", "1", "1"}[i])
+	}
+	before := h.counts(p.ws.ID)
+	res, body := h.post(p.path()+"/weights", custom)
+	if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, weightField(p.experts[1].ID)) ||
+		!strings.Contains(body, "kept reason (invented)") || h.counts(p.ws.ID) != before {
+		t.Fatalf("negative custom weight: %d", res.StatusCode)
+	}
+	custom.Set(weightField(p.experts[1].ID), "0")
+	if res, body := h.post(p.path()+"/weights", custom); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("custom weights: %d %s", res.StatusCode, body)
+	}
+	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != elicit.WeightsCustom || wt.ByExpert[p.experts[0].ID] != 2 || wt.ByExpert[p.experts[1].ID] != 0 {
+		t.Fatalf("stored %+v", wt)
+	}
+	// Performance weights with a fixed cut-off of 0: every expert weighted
+	// by calibration × information, and the record reports that cut-off.
+	zero := 0.0
+	sc := model(t, &zero).Weights()
+	res, _ = h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "alpha": {"0"}, "reason": {"everyone counts (invented)"}})
+	if res.StatusCode != http.StatusSeeOther || res.Header.Get("Location") != p.path()+"?alpha=0#weights" {
+		t.Fatalf("fixed cut-off weights: %d %s", res.StatusCode, res.Header.Get("Location"))
+	}
+	wt, _ := h.db.Weights(ctx, p.ws.ID)
+	for _, e := range p.experts {
+		if d := wt.ByExpert[e.ID] - sc[e.Name]; d > 1e-12 || d < -1e-12 || sc[e.Name] == 0 {
+			t.Errorf("%s: stored %v, model at α = 0 %v", e.Name, wt.ByExpert[e.ID], sc[e.Name])
+		}
+	}
+	p.enterTruths(t, true)
+	_, js := h.get(workshopPath(p.ws.ID) + "/export.json")
+	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if perf := rec.Performance; perf == nil || perf.Alpha != 0 || perf.AlphaRule != elicit.AlphaFixed || !perf.InForce {
+		t.Fatalf("exported performance %+v, want the fixed cut-off 0 in force", rec.Performance)
+	}
+	// A cut-off above every calibration score is refused, nothing saved.
+	before = h.counts(p.ws.ID)
+	res, body = h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "alpha": {"0.99"}, "reason": {"too strict (invented)"}})
+	if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "alpha") || h.counts(p.ws.ID) != before {
+		t.Fatalf("cut-off above every score: %d", res.StatusCode)
+	}
+}
