@@ -699,6 +699,11 @@ func addExpert(t *testing.T, fac *person, wsURL, name, affiliation string) strin
 	return link
 }
 
+// livePreviewWait is how long the live preview may take after the last
+// key (its script waits 350 ms for typing to pause); generous, because CI
+// runs every package's tests at once on few cores.
+const livePreviewWait = 10 * time.Second
+
 // previewCircles is the selector of the stated points in the fit preview.
 const previewCircles = `#preview svg circle.stated`
 
@@ -738,8 +743,8 @@ func livePreview(t *testing.T, ex *person, n int, before []point, shows string) 
 		const p = document.getElementById("preview");
 		return cs.length === %d && JSON.stringify(cs) !== %q && !!p && p.innerText.includes(%q) && !document.querySelector("#preview[aria-busy=true]");
 	})()`, previewCircles, n, string(beforeJSON), shows)
-	if err := ex.poll(5*time.Second, expr); err != nil {
-		t.Errorf("%s: the live preview did not redraw %d stated points within 5 s of typing (%v); using the Show the fit button", ex.name, n, err)
+	if err := ex.poll(livePreviewWait, expr); err != nil {
+		t.Errorf("%s: the live preview did not redraw %d stated points within %v of typing (%v); using the Show the fit button", ex.name, n, livePreviewWait, err)
 		ex.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
 		ex.waitFor("the fit after Show the fit", expr)
 	}
