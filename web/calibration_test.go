@@ -601,3 +601,33 @@ func TestCalibrationCustomAndFixedCutOffWeights(t *testing.T) {
 		t.Fatalf("cut-off above every score: %d", res.StatusCode)
 	}
 }
+
+func TestCalibrationPageWithoutScorableSeeds(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("No seeds (invented)")
+	res, body := h.get(calibrationPath(ws.ID))
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "This workshop has no calibration questions.") {
+		t.Fatalf("empty workshop: %d", res.StatusCode)
+	}
+	// A calibration question in chips is listed, noted as left out, and
+	// no scores are drawn.
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Chips seed"}, "quantity": {"chips seed share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"chips"}, "bin_edges": {"0 0.25 0.5 1"}, "chips": {"10"},
+		"calibration": {"on"}, "true_value": {"0.3"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("chips seed: %d %s", res.StatusCode, body)
+	}
+	_, body = h.get(calibrationPath(ws.ID))
+	for _, want := range []string{"chips seed share: asked as chips in bins; the classical model scores answers given as quantiles",
+		"There are no answered calibration questions in quantiles to score yet."} {
+		if !strings.Contains(body, want) {
+			t.Errorf("page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, `id="scores-table"`) {
+		t.Error("scores drawn without a scorable question")
+	}
+	if res, _ := h.get(calibrationPath(999)); res.StatusCode != http.StatusNotFound {
+		t.Errorf("missing workshop: %d", res.StatusCode)
+	}
+}
