@@ -223,7 +223,9 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	if f.Error("true_value") == "" && !(value > q.Lower && value < q.Upper) {
 		f.set("true_value", "must lie strictly inside the question's bounds ("+fv(q.Lower)+", "+fv(q.Upper)+")")
 	}
-	reveal := f.Checked("reveal")
+	// A revealed value is visible to the experts, so changing it is
+	// recorded as a reveal, with its reason.
+	reveal := f.Checked("reveal") || q.Revealed
 	reason := f.Text("reason", MaxLongText, reveal)
 	if f.OK() {
 		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)

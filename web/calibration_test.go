@@ -364,6 +364,18 @@ func TestTrueValueRefusedBesideTheField(t *testing.T) {
 	if last := evs[len(evs)-1]; last.Kind != elicit.EventTruthRevealed || last.Reason != "all in (invented)" || last.QuestionID != q.ID {
 		t.Fatalf("last event %+v", last)
 	}
+	// Changing a revealed value needs a reason and is recorded.
+	before = h.counts(p.ws.ID)
+	if res, body := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0.3175"}}); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "reason") || h.counts(p.ws.ID) != before {
+		t.Fatalf("changing a revealed value without reason: %d", res.StatusCode)
+	}
+	if res, _ := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0.3175"}, "reason": {"typo (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("changing a revealed value: %d", res.StatusCode)
+	}
+	evs, _ = h.db.Events(ctx, p.ws.ID)
+	if last := evs[len(evs)-1]; last.Kind != elicit.EventTruthRevealed || last.Reason != "typo (invented)" || !strings.Contains(last.Detail, "0.3175") {
+		t.Fatalf("change of a revealed value recorded as %+v", last)
+	}
 }
 
 func TestPerformanceWeightsChangeThePool(t *testing.T) {
