@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"fmt"
+	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -27,8 +28,8 @@ var (
 			"No field data exist yet. The panel gives its judgement of the proportion of units that will fail in their first year.",
 		Decision: "INVENTED. The agreed prior feeds the spare-parts order for year one and the Bayesian reliability model " +
 			"that will be updated as field returns arrive.",
-		Notes: "Demo data, all invented. One panel member (Ole Brandt) is deliberately overconfident: compare the widths of the fits. " +
-			"The two calibration questions have invented true values, stored hidden.",
+		// Notes is completed by demoNotes, which counts the calibration questions.
+		Notes:    "Demo data, all invented. One panel member (Ole Brandt) is deliberately overconfident: compare the widths of the fits. ",
 		Invented: true,
 	}
 	demoQuestions = []elicit.Question{
@@ -74,6 +75,27 @@ var (
 	}
 )
 
+// demoNotes is the demo workshop's facilitator notes, with the number of
+// calibration questions counted from the demo's questions.
+func demoNotes() string {
+	n := len(demoSeeds)
+	for _, q := range demoQuestions {
+		if q.Calibration {
+			n++
+		}
+	}
+	return demoWorkshop.Notes + fmt.Sprintf("Its %s calibration questions have invented true values, stored hidden until revealed on the calibration page.", numberWord(n))
+}
+
+// numberWord writes small counts in words, as prose does.
+func numberWord(n int) string {
+	words := []string{"no", "one", "two", "three", "four", "five", "six", "seven", "eight", "nine", "ten"}
+	if n >= 0 && n < len(words) {
+		return words[n]
+	}
+	return strconv.Itoa(n)
+}
+
 // SeedDemo creates the invented demo workshop when the database has no
 // workshop at all, and returns its experts' private links (shown once; the
 // store keeps only hashes). With any workshop present it does nothing and
@@ -87,6 +109,7 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 		return nil, nil
 	}
 	ws := demoWorkshop
+	ws.Notes = demoNotes()
 	if err := st.CreateWorkshop(ctx, &ws); err != nil {
 		return nil, fmt.Errorf("web: demo workshop: %w", err)
 	}

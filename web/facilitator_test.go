@@ -35,6 +35,16 @@ func TestSeedDemo(t *testing.T) {
 	if !ws.Invented || len(qs) < 3 || len(es) != 4 || len(links) != 4 {
 		t.Fatalf("demo: invented %v, %d questions, %d experts, %d links", ws.Invented, len(qs), len(es), len(links))
 	}
+	// The notes count the calibration questions the demo really has.
+	calib := 0
+	for _, q := range qs {
+		if q.Calibration {
+			calib++
+		}
+	}
+	if want := "Its " + numberWord(calib) + " calibration questions"; calib != 5 || !strings.Contains(ws.Notes, want) {
+		t.Errorf("demo has %d calibration questions; notes say %q, want %q", calib, ws.Notes, want)
+	}
 	// Every demo answer is a valid judgement that elicit can fit.
 	revs, _ := h.db.Revisions(context.Background(), ws.ID)
 	if len(revs) == 0 {
