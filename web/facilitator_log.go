@@ -1,17 +1,25 @@
 package web
 
 import (
+	"encoding/json"
 	"net/http"
+	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 )
 
 // logView is the workshop's decision log: every facilitator decision with
-// its time and reason, oldest first.
+// its time and reason, oldest first, each written as a sentence. The raw
+// JSON of each decision travels only in the export.
 type logView struct {
-	Workshop  elicit.Workshop
-	Events    []elicit.Event
-	Questions map[int64]elicit.Question
+	Workshop elicit.Workshop
+	Rows     []logRow
+}
+
+// logRow is one decision as the log shows it.
+type logRow struct {
+	When, Decision, AppliesTo, Reason, Detail string
 }
 
 func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
@@ -29,11 +37,32 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	v := logView{Workshop: ws, Events: evs, Questions: map[int64]elicit.Question{}}
-	for _, q := range qs {
-		v.Questions[q.ID] = q
+	es, err := s.store.Experts(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
 	}
-	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Decision log", "log"), logPage(v))
+	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Decision log", "log"), logPage(newLogView(ws, evs, qs, es)))
+}
+
+// newLogView writes each event as a row of the log, naming experts and
+// questions instead of their ids.
+func newLogView(ws elicit.Workshop, evs []elicit.Event, qs []elicit.Question, es []elicit.Expert) logView {
+	w := eventWriter{questions: map[int64]elicit.Question{}, experts: es, revealed: map[int64]bool{}}
+	for _, q := range qs {
+		w.questions[q.ID] = q
+	}
+	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs))}
+	for _, e := range evs {
+		v.Rows = append(v.Rows, logRow{
+			When:      e.At.UTC().Format("2006-01-02 15:04:05 UTC"),
+			Decision:  eventLabel(e.Kind),
+			AppliesTo: w.question(e.QuestionID),
+			Reason:    orDash(e.Reason),
+			Detail:    w.sentence(e),
+		})
+	}
+	return v
 }
 
 // eventLabels are the log's plain words for each kind of decision.
@@ -55,4 +84,144 @@ func eventLabel(k elicit.EventKind) string {
 		return l
 	}
 	return string(k)
+}
+
+// eventDetail is the union of what the store writes into Event.Detail
+// for each kind of decision.
+type eventDetail struct {
+	Round     int                 `json:"round"`
+	ExpertID  int64               `json:"expert_id"`
+	Scheme    elicit.WeightScheme `json:"scheme"`
+	ByExpert  map[string]float64  `json:"by_expert"`
+	Source    elicit.PriorSource  `json:"source"`
+	Dist      *elicit.ScaledBeta  `json:"dist"`
+	TrueValue *float64            `json:"true_value"`
+}
+
+// eventWriter turns events into sentences; it remembers which questions'
+// true values were already revealed, so that a later reveal reads as a
+// change.
+type eventWriter struct {
+	questions map[int64]elicit.Question
+	experts   []elicit.Expert
+	revealed  map[int64]bool
+}
+
+func (w eventWriter) question(id int64) string {
+	if id == 0 {
+		return "whole workshop"
+	}
+	if q, ok := w.questions[id]; ok {
+		return "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+	}
+	return "question " + strconv.FormatInt(id, 10)
+}
+
+func (w eventWriter) expert(id int64) string { return expertName(w.experts, id) }
+
+// sentence is the event's detail in words; "—" when there is nothing to
+// add to its label, or its detail cannot be read.
+func (w eventWriter) sentence(e elicit.Event) string {
+	var d eventDetail
+	if e.Detail != "" && json.Unmarshal([]byte(e.Detail), &d) != nil {
+		return "—"
+	}
+	switch e.Kind {
+	case elicit.EventWorkshopCreated:
+		return "Round 1 opened with the workshop."
+	case elicit.EventRoundClosed:
+		if d.Round > 0 {
+			return "Round " + strconv.Itoa(d.Round) + " closed: experts can no longer save."
+		}
+	case elicit.EventRoundOpened:
+		if d.Round > 0 {
+			return "Round " + strconv.Itoa(d.Round) + " opened: experts see the panel without names and may revise."
+		}
+	case elicit.EventExpertAdded:
+		if d.ExpertID != 0 {
+			return w.expert(d.ExpertID) + " joined the panel and was given a private link."
+		}
+	case elicit.EventExpertRevoked:
+		if d.ExpertID != 0 {
+			return w.expert(d.ExpertID) + "'s private link stopped working."
+		}
+	case elicit.EventTokenReissued:
+		if d.ExpertID != 0 {
+			return w.expert(d.ExpertID) + " was given a new private link; the old one stopped working."
+		}
+	case elicit.EventQuestionAdded:
+		if q, ok := w.questions[e.QuestionID]; ok {
+			kind := "Target question"
+			if q.Calibration {
+				kind = "Calibration question"
+			}
+			return kind + ", asked as " + formatLabel(q) + "."
+		}
+	case elicit.EventWeightsSet:
+		return w.weights(d)
+	case elicit.EventPriorAgreed:
+		if d.Dist != nil {
+			return betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+		}
+	case elicit.EventTruthRevealed:
+		if d.TrueValue != nil {
+			verb := "True value " + fv(*d.TrueValue) + " shown to the experts."
+			if w.revealed[e.QuestionID] {
+				verb = "True value changed to " + fv(*d.TrueValue) + " (already shown to the experts)."
+			}
+			w.revealed[e.QuestionID] = true
+			return verb
+		}
+	}
+	return "—"
+}
+
+// weights writes a weight set as each expert's share of the pool, in the
+// roster's order.
+func (w eventWriter) weights(d eventDetail) string {
+	switch d.Scheme {
+	case elicit.WeightsEqual:
+		return "Equal weights for every active expert."
+	case elicit.WeightsCustom, elicit.WeightsPerformance:
+	default:
+		return "—"
+	}
+	total := 0.0
+	for _, x := range d.ByExpert {
+		total += x
+	}
+	if total <= 0 {
+		return "—"
+	}
+	var parts []string
+	seen := map[string]bool{}
+	add := func(key string, id int64) {
+		if x, ok := d.ByExpert[key]; ok && !seen[key] {
+			seen[key] = true
+			parts = append(parts, w.expert(id)+" "+strconv.FormatFloat(x/total, 'f', 2, 64))
+		}
+	}
+	for _, e := range w.experts {
+		add(strconv.FormatInt(e.ID, 10), e.ID)
+	}
+	for key := range d.ByExpert {
+		if id, err := strconv.ParseInt(key, 10, 64); err == nil {
+			add(key, id)
+		}
+	}
+	scheme := "Weights set by the facilitator"
+	if d.Scheme == elicit.WeightsPerformance {
+		scheme = "Performance weights from the calibration questions"
+	}
+	return scheme + ", as shares of the pool: " + strings.Join(parts, ", ") + "."
+}
+
+// betaLabel writes a Beta with four significant figures, and its scale
+// when that is not [0, 1].
+func betaLabel(d elicit.ScaledBeta) string {
+	s := "Beta(" + fv(d.Alpha) + ", " + fv(d.Beta.Beta) + ")"
+	if d.Lower != 0 || d.Upper != 1 {
+		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
+	}
+	return s
 }

@@ -33,11 +33,11 @@ func (v reportView) question(id int64) string {
 }
 
 func (v reportView) logView() logView {
-	lv := logView{Workshop: v.Record.Workshop, Events: v.Record.Events, Questions: map[int64]elicit.Question{}}
-	for _, q := range v.Record.Questions {
-		lv.Questions[q.ID] = q.Question
+	qs := make([]elicit.Question, len(v.Record.Questions))
+	for i, q := range v.Record.Questions {
+		qs[i] = q.Question
 	}
-	return lv
+	return newLogView(v.Record.Workshop, v.Record.Events, qs, v.Record.Experts)
 }
 
 func exportPath(ws int64, ext string) string { return workshopPath(ws) + "/export." + ext }

@@ -447,3 +447,65 @@ func TestEditWorkshopAndEscaping(t *testing.T) {
 		}
 	}
 }
+
+// TestDecisionLogInSentences: the log and the report write each decision
+// in words, with names and rounded numbers; the raw JSON stays in the
+// export.
+func TestDecisionLogInSentences(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	wp := workshopPath(ws.ID)
+	qp := questionPath(ws.ID, qs[0].ID)
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Ole is overconfident (invented)"}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "0"}[i])
+	}
+	steps := []struct {
+		path string
+		form url.Values
+	}{
+		{qp + "/weights", wf},
+		{qp + "/agree", url.Values{"source": {"pool"}, "rationale": {"Pool (invented)."}}},
+		{wp + "/round", url.Values{"action": {"close"}}},
+		{wp + "/round", url.Values{"action": {"open"}, "reason": {"Spread discussed (invented)."}}},
+		{calibrationPath(ws.ID) + "/q/" + fmt.Sprint(qs[1].ID), url.Values{"true_value": {"0.0413"}, "reveal": {"on"}, "reason": {"Shown after round 2 (invented)."}}},
+		{calibrationPath(ws.ID) + "/q/" + fmt.Sprint(qs[1].ID), url.Values{"true_value": {"0.0415"}, "reason": {"Typo (invented)."}}},
+		{expertActionPath(ws.ID, es[3].ID, "revoke"), url.Values{"reason": {"Left (invented)."}}},
+	}
+	for _, st := range steps {
+		if res, body := h.post(st.path, st.form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("POST %s: %d %s", st.path, res.StatusCode, body)
+		}
+	}
+	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
+	if len(ps) != 1 {
+		t.Fatalf("%d agreed priors", len(ps))
+	}
+	beta := "Beta(" + fv(ps[0].Dist.Alpha) + ", " + fv(ps[0].Dist.Beta.Beta) + "): the single Beta representing the linear pool."
+	want := []string{
+		"Ines Varga joined the panel", "Ole Brandt joined the panel",
+		"Ines Varga 0.50, Tomas Lindqvist 0.25, Priya Raman 0.25, Ole Brandt 0.00",
+		beta,
+		"Round 1 closed", "Round 2 opened",
+		"True value 0.0413 shown to the experts.", "True value changed to 0.0415",
+		"Ole Brandt&#39;s private link stopped working.",
+		"Calibration question, asked as quantiles at 25%, 50%, 75%.",
+	}
+	for _, path := range []string{wp + "/log", wp + "/report"} {
+		_, body := h.get(path)
+		for _, w := range want {
+			if !strings.Contains(body, w) {
+				t.Errorf("%s lacks %q", path, w)
+			}
+		}
+		for _, raw := range []string{"expert_id", "by_expert", "&#34;round&#34;", "&#34;alpha&#34;", "&#34;true_value&#34;"} {
+			if strings.Contains(body, raw) {
+				t.Errorf("%s shows raw event data %q", path, raw)
+			}
+		}
+	}
+	_, body := h.get(wp + "/export.json")
+	if !strings.Contains(body, `expert_id`) || !strings.Contains(body, `by_expert`) {
+		t.Error("the export lost the events' raw data")
+	}
+}
