@@ -509,3 +509,52 @@ func TestDecisionLogInSentences(t *testing.T) {
 		t.Error("the export lost the events' raw data")
 	}
 }
+
+// TestReportHistoryShowsWhatWasStated: the report's revision history
+// carries each expert's stated values in the question's format, and the
+// reason, beside the fitted Beta.
+func TestReportHistoryShowsWhatWasStated(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	wp := workshopPath(ws.ID)
+	for _, form := range []url.Values{
+		{"wording": {"Interval"}, "quantity": {"q interval"}, "lower": {"0"}, "upper": {"1"}, "format": {"interval"}},
+		{"wording": {"Chips"}, "quantity": {"q chips"}, "lower": {"0"}, "upper": {"0.5"}, "format": {"chips"}, "bin_edges": {"0 0.1 0.2 0.3 0.5"}, "chips": {"20"}},
+	} {
+		if res, body := h.post(wp+"/questions", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("add question %s: %d %s", form.Get("quantity"), res.StatusCode, body)
+		}
+	}
+	all, _ := h.db.Questions(ctx, ws.ID)
+	byName := map[string]elicit.Question{}
+	for _, q := range all {
+		byName[q.Quantity] = q
+	}
+	for _, rv := range []elicit.Revision{
+		{QuestionID: byName["q interval"].ID, ExpertID: es[0].ID, Answer: elicit.Answer{Lowest: 0.02, Highest: 0.2, Best: 0.06, Confidence: 0.9}},
+		{QuestionID: byName["q chips"].ID, ExpertID: es[1].ID, Answer: elicit.Answer{Counts: []int{5, 10, 5, 0}}},
+		{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "Heard of a recall (invented).", Answer: elicit.Answer{Values: []float64{0.02, 0.05, 0.15}}},
+	} {
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, body := h.get(wp + "/report")
+	i, j := strings.Index(body, "Full revision history"), strings.Index(body, "<h2>Decision log</h2>")
+	if i < 0 || j < i {
+		t.Fatal("report has no revision history before its decision log")
+	}
+	history := body[i:j]
+	for _, want := range []string{
+		"<th scope=\"col\">Stated</th>",
+		"5%: 0.01; 50%: 0.04; 95%: 0.12", // the demo's round-1 answer of Ines
+		"5%: 0.02; 50%: 0.05; 95%: 0.15", // her revision
+		"Heard of a recall (invented).",  // and its reason
+		"lowest 0.02; highest 0.2; best 0.06; sure 90%",
+		"chips 5, 10, 5, 0",
+	} {
+		if !strings.Contains(history, want) {
+			t.Errorf("revision history lacks %q", want)
+		}
+	}
+}
