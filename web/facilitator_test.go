@@ -558,3 +558,56 @@ func TestReportHistoryShowsWhatWasStated(t *testing.T) {
 		}
 	}
 }
+
+// TestOverviewCarriesEarlierAnswers: in round 2 an answer from round 1 is
+// still the expert's current judgement; the overview says so, per cell
+// and in the roster's count.
+func TestOverviewCarriesEarlierAnswers(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	wp := workshopPath(ws.ID)
+	// The demo: Ines answered Q1, Q2 and the three further calibration
+	// questions in round 1, not Q3; Priya did not answer Q1.
+	row := func(body, name string) string {
+		t.Helper()
+		i := strings.Index(body, `<section id="answered">`)
+		j := strings.Index(body[max(i, 0):], `<th scope="row">`+name+`</th>`)
+		if i < 0 || j < 0 {
+			t.Fatalf("no answered row for %s", name)
+		}
+		r := body[i+j:]
+		return r[:strings.Index(r, "</tr>")]
+	}
+	_, body := h.get(wp)
+	if r := row(body, "Ines Varga"); !strings.Contains(r, "answered (1 save)") || !strings.Contains(r, "no answer yet") {
+		t.Errorf("round 1, Ines: %s", r)
+	}
+	if !strings.Contains(body, "5 of 6 have a current answer") || strings.Contains(body, "revised this round") {
+		t.Error("round 1 roster count wrong")
+	}
+	for _, f := range []url.Values{{"action": {"close"}}, {"action": {"open"}, "reason": {"Discussed (invented)."}}} {
+		if res, _ := h.post(wp+"/round", f); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("round %v: %d", f, res.StatusCode)
+		}
+	}
+	rv := elicit.Revision{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "After discussion (invented).",
+		Answer: elicit.Answer{Values: []float64{0.015, 0.045, 0.11}}}
+	if err := h.db.SaveRevision(context.Background(), &rv); err != nil || rv.Round != 2 {
+		t.Fatalf("revise in round 2: %v, round %d", err, rv.Round)
+	}
+	_, body = h.get(wp)
+	cells := strings.Split(row(body, "Ines Varga"), "<td")[1:]
+	want := []string{"revised in round 2 (1 save)", "carried from round 1", "no answer yet", "carried from round 1"}
+	for i, w := range want {
+		if i >= len(cells) || !strings.Contains(cells[i], w) {
+			t.Errorf("round 2, Ines, Q%d: want %q, row %v", i+1, w, cells)
+		}
+	}
+	if r := row(body, "Priya Raman"); !strings.Contains(r, "no answer yet") || !strings.Contains(r, "carried from round 1") || strings.Contains(r, "not yet<") {
+		t.Errorf("round 2, Priya: %s", r)
+	}
+	for _, w := range []string{"5 of 6 have a current answer; 1 revised this round", "3 of 6 have a current answer; 0 revised this round"} {
+		if !strings.Contains(body, w) {
+			t.Errorf("round 2 roster lacks %q", w)
+		}
+	}
+}

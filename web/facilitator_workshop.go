@@ -13,9 +13,9 @@ type workshopView struct {
 	Workshop  elicit.Workshop
 	Questions []elicit.Question
 	Experts   []elicit.Expert
-	// Answered[expertID][questionID] is the number of revisions the expert
-	// saved on the question in the current round.
-	Answered   map[int64]map[int64]int
+	// Answers[expertID][questionID] is the state of the expert's current
+	// judgement on the question; absent when they have never answered it.
+	Answers    map[int64]map[int64]answerState
 	ExpertForm *Form
 	RoundForm  *Form
 	RosterForm *Form // revoke and re-issue, whose errors show above the roster
@@ -81,16 +81,7 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 		return
 	}
 	v.Workshop, v.Questions, v.Experts = ws, qs, es
-	v.Answered = map[int64]map[int64]int{}
-	for _, rv := range revs {
-		if rv.Round != ws.Round {
-			continue
-		}
-		if v.Answered[rv.ExpertID] == nil {
-			v.Answered[rv.ExpertID] = map[int64]int{}
-		}
-		v.Answered[rv.ExpertID][rv.QuestionID]++
-	}
+	v.Answers = answerStates(ws.Round, revs)
 	if v.ExpertForm == nil {
 		v.ExpertForm = newForm(nil)
 	}
@@ -106,6 +97,33 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 		})
 	}
 	s.renderPage(w, r, status, facilitatorMeta(ws, ws.Title, "overview"), workshopPage(v))
+}
+
+// answerState is where an expert's current judgement on a question comes
+// from: their latest revision's round, and how many times they saved in
+// the current round. An answer from an earlier round stays their current
+// judgement until they revise it.
+type answerState struct {
+	Round int // round of the latest revision
+	Saves int // revisions saved in the workshop's current round
+}
+
+// answerStates reads revisions (oldest first) into each expert's answer
+// state per question, as of round.
+func answerStates(round int, revs []elicit.Revision) map[int64]map[int64]answerState {
+	m := map[int64]map[int64]answerState{}
+	for _, rv := range revs {
+		if m[rv.ExpertID] == nil {
+			m[rv.ExpertID] = map[int64]answerState{}
+		}
+		st := m[rv.ExpertID][rv.QuestionID]
+		st.Round = max(st.Round, rv.Round)
+		if rv.Round == round {
+			st.Saves++
+		}
+		m[rv.ExpertID][rv.QuestionID] = st
+	}
+	return m
 }
 
 // absLink is path as an absolute address to hand to someone: from
