@@ -346,14 +346,33 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 		t.Fatalf("fresh link: %d", res.StatusCode)
 	}
 	// The link is shown once: the overview afterwards does not carry it.
-	if _, body := h.get(workshopPath(ws.ID)); strings.Contains(body, token) {
+	_, body := h.get(workshopPath(ws.ID))
+	if strings.Contains(body, token) {
 		t.Fatal("overview shows the private link again")
+	}
+	// One reason box per row serves both actions.
+	rosterRow := func(body string) string {
+		i := strings.Index(body, `<section id="roster">`)
+		j := strings.Index(body[max(i, 0):], "<tbody>")
+		if i < 0 || j < 0 {
+			t.Fatal("no roster table")
+		}
+		r := body[i+j:]
+		return r[:strings.Index(r, "</tbody>")]
+	}
+	revoke, reissue := expertActionPath(ws.ID, e.ID, "revoke"), expertActionPath(ws.ID, e.ID, "reissue")
+	if r := rosterRow(body); strings.Count(r, `name="reason"`) != 1 || !strings.Contains(r, `action="`+revoke+`"`) || !strings.Contains(r, `formaction="`+reissue+`"`) {
+		t.Errorf("active expert's row: want one reason box, revoke and a new link:\n%s", r)
 	}
 	if res, _ := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("revoke: %d", res.StatusCode)
 	}
 	if res, body := h.get(expertPath(token)); res.StatusCode != http.StatusNotFound || strings.Contains(body, "Expert One") {
 		t.Fatalf("revoked link: %d", res.StatusCode)
+	}
+	_, body = h.get(workshopPath(ws.ID))
+	if r := rosterRow(body); strings.Count(r, `name="reason"`) != 1 || !strings.Contains(r, `action="`+reissue+`"`) || strings.Contains(r, revoke) {
+		t.Errorf("revoked expert's row: want one reason box and a new link only:\n%s", r)
 	}
 	res, body := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}})
 	m := linkPattern.FindStringSubmatch(body)
