@@ -630,3 +630,34 @@ func TestOverviewCarriesEarlierAnswers(t *testing.T) {
 		}
 	}
 }
+
+// TestPanelWeightsPointToCalibration: the question panel's weights form
+// names the scheme in force and leads to the calibration page, where
+// performance weights are chosen.
+func TestPanelWeightsPointToCalibration(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	qp := questionPath(p.ws.ID, p.targets[0].ID)
+	weights := func() string {
+		t.Helper()
+		_, body := h.get(qp)
+		i := strings.Index(body, "<h3>Weights</h3>")
+		j := strings.Index(body[max(i, 0):], "</form>")
+		if i < 0 || j < 0 {
+			t.Fatal("panel has no weights form")
+		}
+		return body[i : i+j]
+	}
+	link := `href="` + calibrationPath(p.ws.ID) + `"`
+	if w := weights(); !strings.Contains(w, "In force: equal weights.") || !strings.Contains(w, link) {
+		t.Errorf("weights before any choice:\n%s", w)
+	}
+	p.enterTruths(t, false)
+	if res, body := h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"Seeds scored (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("performance weights: %d %s", res.StatusCode, body)
+	}
+	if w := weights(); !strings.Contains(w, "In force: performance weights from the calibration questions, since ") ||
+		!strings.Contains(w, link) || !strings.Contains(w, "replaces them") {
+		t.Errorf("weights after choosing performance weights:\n%s", w)
+	}
+}
