@@ -57,7 +57,7 @@ func newLogView(ws elicit.Workshop, evs []elicit.Event, qs []elicit.Question, es
 		v.Rows = append(v.Rows, logRow{
 			When:      e.At.UTC().Format("2006-01-02 15:04:05 UTC"),
 			Decision:  eventLabel(e.Kind),
-			AppliesTo: w.question(e.QuestionID),
+			AppliesTo: w.appliesTo(e),
 			Reason:    orDash(e.Reason),
 			Detail:    w.sentence(e),
 		})
@@ -105,6 +105,16 @@ type eventWriter struct {
 	questions map[int64]elicit.Question
 	experts   []elicit.Expert
 	revealed  map[int64]bool
+}
+
+// appliesTo is the question an event concerns, or the expert for the
+// roster's events, else the whole workshop.
+func (w eventWriter) appliesTo(e elicit.Event) string {
+	var d eventDetail
+	if e.QuestionID == 0 && e.Detail != "" && json.Unmarshal([]byte(e.Detail), &d) == nil && d.ExpertID != 0 {
+		return w.expert(d.ExpertID)
+	}
+	return w.question(e.QuestionID)
 }
 
 func (w eventWriter) question(id int64) string {

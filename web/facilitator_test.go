@@ -509,6 +509,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 		"True value 0.0413 shown to the experts.", "True value changed to 0.0415",
 		"Ole Brandt&#39;s private link stopped working.",
 		"Calibration question, asked as quantiles at 25%, 50%, 75%.",
+		"<td>Ole Brandt</td>", // the revocation applies to him
 	}
 	for _, path := range []string{wp + "/log", wp + "/report"} {
 		_, body := h.get(path)
