@@ -43,10 +43,18 @@ const (
 
 var endpoints = []string{epHome, epQuestion, epPreview, epSave, epRound}
 
-// latencies collects request durations per endpoint.
+// latencies collects durations of successful requests, and counts of
+// failed ones, per endpoint.
 type latencies struct {
-	mu sync.Mutex
-	d  map[string][]time.Duration
+	mu    sync.Mutex
+	d     map[string][]time.Duration
+	fails map[string]int
+}
+
+func (l *latencies) failed(ep string) {
+	l.mu.Lock()
+	l.fails[ep]++
+	l.mu.Unlock()
 }
 
 func (l *latencies) add(ep string, d time.Duration) {
@@ -73,7 +81,7 @@ type loadResult struct {
 	requests int
 	acked    int
 	stored   int
-	lines    []string // one per endpoint: count, p50, p99, max, req/s
+	lines    []string // one per endpoint: successes, failures, p50, p99, max, successes/s
 	p99      map[string]time.Duration
 }
 
@@ -89,7 +97,7 @@ func (r loadResult) report() string {
 	fmt.Fprintf(&b, "CPU used by this process (server and clients together): %v, %.2f ms per request; "+
 		"the latencies below include waiting for a CPU on a shared machine\n",
 		r.cpu.Round(time.Millisecond), float64(r.cpu)/1e6/float64(max(1, r.requests)))
-	fmt.Fprintf(&b, "%-20s %7s %9s %9s %9s %9s\n", "endpoint", "count", "p50", "p99", "max", "req/s")
+	fmt.Fprintf(&b, "%-20s %7s %7s %9s %9s %9s %9s\n", "endpoint", "ok", "failed", "p50", "p99", "max", "ok/s")
 	for _, l := range r.lines {
 		b.WriteString(l + "\n")
 	}
@@ -148,7 +156,7 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	// whole is bounded by size.limit instead of each request by a timeout.
 	cl.Timeout = 0
 
-	lat := &latencies{d: map[string][]time.Duration{}}
+	lat := &latencies{d: map[string][]time.Duration{}, fails: map[string]int{}}
 	var (
 		mu       sync.Mutex
 		failures []string // the first 20
@@ -185,11 +193,13 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		}
 		t0 := time.Now()
 		status, text, err := do(cl, req)
-		lat.add(ep, time.Since(t0))
+		d := time.Since(t0)
 		if err != nil || status != want {
+			lat.failed(ep)
 			fail("%s %s: status %d (want %d), error %v: %.200s", ep, path, status, want, err, text)
 			return false
 		}
+		lat.add(ep, d)
 		return true
 	}
 
@@ -296,12 +306,12 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	for _, ep := range endpoints {
 		d := lat.d[ep]
 		sort.Slice(d, func(i, j int) bool { return d[i] < d[j] })
-		res.requests += len(d)
+		res.requests += len(d) + lat.fails[ep]
 		if len(d) == 0 {
 			continue
 		}
 		res.p99[ep] = quantile(d, 0.99)
-		res.lines = append(res.lines, fmt.Sprintf("%-20s %7d %9s %9s %9s %9.0f", ep, len(d),
+		res.lines = append(res.lines, fmt.Sprintf("%-20s %7d %7d %9s %9s %9s %9.1f", ep, len(d), lat.fails[ep],
 			ms(quantile(d, 0.50)), ms(quantile(d, 0.99)), ms(d[len(d)-1]), float64(len(d))/elapsed.Seconds()))
 	}
 	return res
