@@ -511,6 +511,10 @@ func TestDecisionLogInSentences(t *testing.T) {
 		"Calibration question, asked as quantiles at 25%, 50%, 75%.",
 		"<td>Ole Brandt</td>", // the revocation applies to him
 	}
+	_, report := h.get(wp + "/report")
+	if !strings.Contains(report, "Pool weights in force: weights set by the facilitator, since ") || !strings.Contains(report, "UTC: “Ole is overconfident (invented)”.") {
+		t.Error("the report does not name the weights in force in words")
+	}
 	for _, path := range []string{wp + "/log", wp + "/report"} {
 		_, body := h.get(path)
 		for _, w := range want {
