@@ -5,6 +5,7 @@ import (
 	"crypto/rand"
 	"crypto/sha256"
 	"encoding/base64"
+	"encoding/json"
 	"net/http"
 	"net/http/httptest"
 	"net/url"
@@ -115,6 +116,12 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		{"5", "5", "5", "5", ""},
 		{"21", "0", "0", "0", ""},
 		{"999999999999", "1", "1", "1", ""},
+		{"0", "0.5", "1", "50", ""},                                     // at the bounds
+		{"0.1", "0.1000000000000001", "0.1000000000000002", "1e-9", ""}, // almost no spread
+		{"1e-12", "2e-12", "0.999999999999", "99.999999999", ""},        // spread to the edges
+		{"0.999", "0.9995", "0.9999", "0.5", ""},                        // crowded at the top
+		{"119.99", "0.001", "60", "50", ""},
+		{"0.0001", "120", "119.9999", "99", ""},
 	} {
 		f.Add(s[0], s[1], s[2], s[3], s[4])
 	}
@@ -183,6 +190,18 @@ func FuzzExpertAnswerForm(f *testing.F) {
 				code, body := serve(http.MethodGet, qp+"?saved=1", nil)
 				if code != http.StatusOK || showsNaN(body) {
 					t.Fatalf("%s page after saving %q: status %d, NaN %v\n%s", q.Format, form.Encode(), code, showsNaN(body), body)
+				}
+				// And it goes into the export: json.Marshal refuses NaN and ±Inf.
+				rs, err := db.Revisions(ctx, ws.ID)
+				if err != nil {
+					t.Fatal(err)
+				}
+				fit, err := q.Fit(rs[len(rs)-1].Answer)
+				if err != nil {
+					t.Fatalf("%s save %q: saved an answer elicit cannot fit: %v", q.Format, form.Encode(), err)
+				}
+				if _, err := json.Marshal(elicit.RecordFitOf(fit)); err != nil {
+					t.Fatalf("%s save %q: the fit does not export: %v", q.Format, form.Encode(), err)
 				}
 			}
 		}
