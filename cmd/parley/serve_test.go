@@ -35,7 +35,7 @@ func (s *syncBuffer) String() string {
 	return s.b.String()
 }
 
-var servingAt = regexp.MustCompile(`serving at (http://[^ ]+)/\n`)
+var servingAt = regexp.MustCompile(`serving at (https?://[^ ]+)/\n`)
 
 // startServe runs serve on a free loopback port until the test ends and
 // returns its base URL and output.
