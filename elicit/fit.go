@@ -220,20 +220,31 @@ func fitCumulative(u, p []float64) (d Beta, sse float64, resid []float64, err er
 			try(q.gridStarts(gridRestarts))
 		}
 	}
-	d = Beta{Alpha: math.Exp(best[0]), Beta: math.Exp(best[1])}
-	if math.IsNaN(bestF) || math.IsInf(bestF, 0) || d.Validate() != nil {
-		return Beta{}, 0, nil, fmt.Errorf("%w: alpha %v, beta %v, objective %v", ErrFitFailed, d.Alpha, d.Beta, bestF)
-	}
-	for _, t := range best {
-		if t < logParamMin+edgeMargin || t > logParamMax-edgeMargin {
-			return Beta{}, 0, nil, fmt.Errorf("%w: the best fit runs to the edge of the search (alpha %.3g, beta %.3g): no Beta with alpha and beta between 1e-6 and 1e9 fits these answers", ErrFitFailed, d.Alpha, d.Beta)
-		}
+	d, err = fittedBeta(best, bestF)
+	if err != nil {
+		return Beta{}, 0, nil, err
 	}
 	if q.exactlyDetermined() && !(q.maxAbsResid(best[:]) <= exactAccept) {
 		return Beta{}, 0, nil, fmt.Errorf("%w: no Beta with alpha and beta between 1e-6 and 1e9 matches both stated pairs exactly (closest misses by %.3g)", ErrFitFailed, q.maxAbsResid(best[:]))
 	}
 	q.at(best[:])
 	return d, bestF, append([]float64(nil), q.r...), nil
+}
+
+// fittedBeta is the Beta at θ = (log α, log β) with objective f, or
+// ErrFitFailed if f is not finite or θ lies within edgeMargin of the
+// search limits (the fit runs off to α, β → 0 or ∞).
+func fittedBeta(th [2]float64, f float64) (Beta, error) {
+	d := Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}
+	if math.IsNaN(f) || math.IsInf(f, 0) || d.Validate() != nil {
+		return Beta{}, fmt.Errorf("%w: alpha %v, beta %v, objective %v", ErrFitFailed, d.Alpha, d.Beta, f)
+	}
+	for _, t := range th {
+		if t < logParamMin+edgeMargin || t > logParamMax-edgeMargin {
+			return Beta{}, fmt.Errorf("%w: the best fit runs to the edge of the search (alpha %.3g, beta %.3g): no Beta with alpha and beta between 1e-6 and 1e9 fits these answers", ErrFitFailed, d.Alpha, d.Beta)
+		}
+	}
+	return d, nil
 }
 
 // fitFrom is a local fit from θ₀, followed for exactly determined data by
@@ -364,6 +375,12 @@ func (q *lsq) hess(h *mat.SymDense, th []float64) {
 // when a major iteration improves the objective by less than 1e-10 + 1e-7·S
 // and returns the best point seen.
 func (q *lsq) localFit(th0 [2]float64) ([2]float64, float64) {
+	return q.localFitTol(th0, 1e-10, 1e-7)
+}
+
+// localFitTol is localFit stopping when a major iteration improves the
+// objective by less than abs + rel·S.
+func (q *lsq) localFitTol(th0 [2]float64, abs, rel float64) ([2]float64, float64) {
 	best, bestF := th0, q.sse(th0[:])
 	if math.IsInf(bestF, 0) || math.IsNaN(bestF) {
 		return best, bestF
@@ -387,7 +404,7 @@ func (q *lsq) localFit(th0 [2]float64) ([2]float64, float64) {
 			if loc.F < bestF {
 				best, bestF = [2]float64{loc.X[0], loc.X[1]}, loc.F
 			}
-			if !(prev-bestF > 1e-10+1e-7*bestF) {
+			if !(prev-bestF > abs+rel*bestF) {
 				break
 			}
 		} else {

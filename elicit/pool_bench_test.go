@@ -39,17 +39,32 @@ func BenchmarkPoolQuantiles20x99(b *testing.B) {
 	}
 }
 
-func BenchmarkPoolBestBeta20(b *testing.B) {
-	ds, w := benchExperts()
+// benchPanel4 is an invented panel of four experts on a first-year
+// failure proportion, one of them far more confident than the rest and
+// off their centre: the pool has a spike on a broad hump, no single Beta
+// fits it closely, and BestBeta must search beyond its first starts.
+func benchPanel4() []ScaledBeta {
+	return unitBetas(2.0, 40.6, 4.4, 77.1, 462, 14904, 6.5, 95)
+}
+
+func benchBestBeta(b *testing.B, ds []ScaledBeta, w []float64) {
 	p, err := LinearPool(ds, w)
 	if err != nil {
 		b.Fatal(err)
 	}
+	b.ReportAllocs()
 	for b.Loop() {
 		if _, err := p.BestBeta(); err != nil {
 			b.Fatal(err)
 		}
 	}
+}
+
+func BenchmarkPoolBestBeta4(b *testing.B) { benchBestBeta(b, benchPanel4(), nil) }
+
+func BenchmarkPoolBestBeta20(b *testing.B) {
+	ds, w := benchExperts()
+	benchBestBeta(b, ds, w)
 }
 
 func BenchmarkLogPool(b *testing.B) {

@@ -3,6 +3,7 @@ package elicit
 import (
 	"encoding/json"
 	"math"
+	"math/rand/v2"
 	"strconv"
 	"strings"
 	"testing"
@@ -482,5 +483,112 @@ func TestPoolValidate(t *testing.T) {
 	}
 	if err := mustPool(t, unitBetas(2, 3, 4, 5), []float64{1, 2}).Validate(); err != nil {
 		t.Errorf("LinearPool's pool: %v", err)
+	}
+}
+
+// poolGridQuantiles is what BestBeta fits: the pool's quantiles at
+// 0.01, …, 0.99 on the unit scale, those strictly inside (0, 1).
+func poolGridQuantiles(t *testing.T, p Pool) (u, up []float64) {
+	t.Helper()
+	probs := gridProbs(representationGrid)
+	qs, err := p.Quantiles(probs)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for k, q := range qs {
+		if x := (q - p.Lower) / p.width(); x > 0 && x < 1 {
+			u, up = append(u, x), append(up, probs[k])
+		}
+	}
+	return u, up
+}
+
+// exhaustiveRepresentation is the smallest objective over the whole grid
+// of 99 points from local fits started at FitQuantiles' moment-based
+// start, at every start of the cumulative fitter's grid (all 15 levels of
+// α+β), and at every component's own Beta, the best finished to a
+// relative improvement of 1e-13: the search BestBeta did before it
+// looked for the basin on subsets of the grid.
+func exhaustiveRepresentation(p Pool, u, up []float64) float64 {
+	q := &lsq{u: u, p: up, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+	starts := append([][2]float64{q.momentStart()}, q.gridStarts(gridRestarts)...)
+	for _, c := range p.Components {
+		starts = append(starts, clampBox([2]float64{math.Log(c.Dist.Alpha), math.Log(c.Dist.Beta.Beta)}))
+	}
+	best, bestF := starts[0], math.Inf(1)
+	for _, th := range starts {
+		if x, f := q.localFit(th); f < bestF {
+			best, bestF = x, f
+		}
+	}
+	_, f := q.localFitTol(best, 0, 1e-13)
+	return f
+}
+
+func TestBestBetaFastPathMatchesGrid(t *testing.T) {
+	// Invented pools, tight and wide, skewed, disagreeing and rare-event:
+	// the representation found from the moment-matched and quantile-based
+	// starts on subsets of the grid must reach the objective of the
+	// exhaustive search on the whole grid within 1e-9 relative. Pools
+	// close to a single Beta must be settled without the grid of starts.
+	cases := []struct {
+		name     string
+		dists    []ScaledBeta
+		weights  []float64
+		unimodal bool // settled from the first starts
+	}{
+		{"tight, agreeing", unitBetas(400, 600, 420, 580, 390, 610), nil, true},
+		{"wide, agreeing", unitBetas(1.2, 1.5, 0.9, 2, 1.6, 1.3), nil, true},
+		{"skewed, agreeing", unitBetas(2, 40, 1.5, 30, 3, 55), []float64{2, 1, 1}, true},
+		{"rare event", unitBetas(0.5, 2000, 1.2, 800, 2, 5000), nil, false},
+		{"bimodal, two experts", unitBetas(4, 36, 30, 30), nil, false},
+		{"opposed, J against J", unitBetas(5, 45, 45, 5), nil, false},
+		{"three far apart", unitBetas(20, 180, 100, 100, 180, 20), nil, false},
+		{"U shape and a hump", unitBetas(0.3, 0.3, 5, 5), nil, false},
+		{"overconfident expert off centre", benchPanel4(), nil, false},
+		{"confident minority", unitBetas(2, 6, 900, 100), []float64{0.9, 0.1}, false},
+		// Pools where the first starts find a local minimum only.
+		{"rare J, a near-certain high expert, a J at 0", unitBetas(5, 1400, 600, 14, 0.3, 105), []float64{0.42, 0.58, 0.9}, false},
+		{"rare-event J against a sharp middle", unitBetas(0.48, 395, 1270, 1230), []float64{1.03, 0.34}, false},
+		{"low hump against a spike at 1", unitBetas(13.6, 200, 1450, 0.4), []float64{0.42, 0.95}, false},
+		{"broad high against narrow low", unitBetas(8, 2.5, 29, 335), []float64{0.35, 1}, false},
+		{"twenty, unequal weights", func() []ScaledBeta { d, _ := benchExperts(); return d }(),
+			func() []float64 { _, w := benchExperts(); return w }(), true},
+	}
+	rng := rand.New(rand.NewPCG(3, 9))
+	logU := func(lo, hi float64) float64 { return math.Exp(math.Log(lo) + rng.Float64()*math.Log(hi/lo)) }
+	random := 16
+	if testing.Short() {
+		random = 4
+	}
+	for k := 0; k < random; k++ {
+		// Experts who disagree widely: α, β log-uniform on [0.3, 3000].
+		var ds []ScaledBeta
+		var w []float64
+		for i := 2 + rng.IntN(5); i > 0; i-- {
+			ds = append(ds, Unit(Beta{logU(0.3, 3000), logU(0.3, 3000)}))
+			w = append(w, 0.2+rng.Float64())
+		}
+		cases = append(cases, struct {
+			name     string
+			dists    []ScaledBeta
+			weights  []float64
+			unimodal bool
+		}{"random " + strconv.Itoa(k), ds, w, false})
+	}
+	for _, tc := range cases {
+		p := mustPool(t, tc.dists, tc.weights)
+		u, up := poolGridQuantiles(t, p)
+		_, f, searched, err := p.representationFit(u, up)
+		if err != nil {
+			t.Errorf("%s: %v", tc.name, err)
+			continue
+		}
+		if ref := exhaustiveRepresentation(p, u, up); !(f <= ref*(1+1e-9)+1e-15) {
+			t.Errorf("%s: objective %.12g, exhaustive search %.12g", tc.name, f, ref)
+		}
+		if tc.unimodal && searched {
+			t.Errorf("%s: searched the grid of starts for a pool close to one Beta", tc.name)
+		}
 	}
 }
