@@ -42,6 +42,12 @@ type Store interface {
 	// the workshop's round is not open; it sets ID, Round and At.
 	SaveRevision(ctx context.Context, r *elicit.Revision) error
 	Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) // oldest first
+	// Narrower reads for the expert's pages, which are opened many times a
+	// round: one expert's revisions (all questions, or one), and each
+	// expert's latest revision of one question. All ordered by revision id.
+	ExpertRevisions(ctx context.Context, expertID int64) ([]elicit.Revision, error)
+	QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]elicit.Revision, error)
+	LatestRevisions(ctx context.Context, questionID int64) ([]elicit.Revision, error)
 
 	// Facilitator decisions.
 	SetWeights(ctx context.Context, w *elicit.Weights) error                          // records EventWeightsSet

@@ -1,0 +1,71 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Reads of revisions narrower than a whole workshop, for the pages an
+// expert opens many times a round: each reads only what the page shows,
+// through the index on (question_id, expert_id, id).
+
+const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
+	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts`
+
+// ExpertRevisions returns one expert's revisions on every question of
+// their workshop, oldest first.
+func (db *DB) ExpertRevisions(ctx context.Context, expertID int64) ([]elicit.Revision, error) {
+	return scanRevisions(db.r.QueryContext(ctx,
+		`SELECT `+revisionColumns+` FROM revisions r WHERE r.expert_id = ? ORDER BY r.id`, expertID))
+}
+
+// QuestionExpertRevisions returns one expert's revisions of one question,
+// oldest first.
+func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]elicit.Revision, error) {
+	return scanRevisions(db.r.QueryContext(ctx,
+		`SELECT `+revisionColumns+` FROM revisions r
+		 WHERE r.question_id = ? AND r.expert_id = ? ORDER BY r.id`, questionID, expertID))
+}
+
+// LatestRevisions returns each expert's latest revision of one question
+// (the one with the highest id, revisions being append-only), ordered by
+// revision id.
+func (db *DB) LatestRevisions(ctx context.Context, questionID int64) ([]elicit.Revision, error) {
+	return scanRevisions(db.r.QueryContext(ctx,
+		`SELECT `+revisionColumns+` FROM revisions r
+		 WHERE r.id IN (SELECT MAX(id) FROM revisions WHERE question_id = ? GROUP BY expert_id)
+		 ORDER BY r.id`, questionID))
+}
+
+// scanRevisions reads rows of revisionColumns.
+func scanRevisions(rows *sql.Rows, err error) ([]elicit.Revision, error) {
+	if err != nil {
+		return nil, fmt.Errorf("store: revisions: %w", err)
+	}
+	defer rows.Close()
+	var rs []elicit.Revision
+	for rows.Next() {
+		var (
+			r              elicit.Revision
+			at, vs, counts string
+		)
+		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
+			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts); err != nil {
+			return nil, fmt.Errorf("store: read revision: %w", err)
+		}
+		if r.At, err = parseTime(at); err != nil {
+			return nil, err
+		}
+		if err := unmarshalList(vs, &r.Answer.Values); err != nil {
+			return nil, err
+		}
+		if err := unmarshalList(counts, &r.Answer.Counts); err != nil {
+			return nil, err
+		}
+		rs = append(rs, r)
+	}
+	return rs, rows.Err()
+}

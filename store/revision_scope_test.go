@@ -1,0 +1,88 @@
+package store
+
+import (
+	"context"
+	"reflect"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// The scoped reads must return exactly the revisions that filtering the
+// whole workshop's revisions would, including across two workshops and
+// an expert's several revisions of a question.
+func TestScopedRevisionReads(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	a, b := seed(t, db), seed(t, db)
+	save := func(p panel, q, e int, median float64) {
+		t.Helper()
+		rv := elicit.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: quantileAnswer(median)}
+		if q == 1 {
+			rv.Answer = elicit.Answer{Lowest: 0.1, Highest: 0.5, Best: median, Confidence: 0.8}
+		}
+		if err := db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	save(a, 0, 0, 0.3)
+	save(b, 0, 0, 0.4)
+	save(a, 0, 1, 0.35)
+	save(a, 0, 0, 0.32) // Ada revises question 0
+	save(a, 1, 0, 0.25)
+	save(a, 0, 2, 0.3)
+	save(a, 0, 1, 0.36) // Bela revises question 0
+	all, err := db.Revisions(ctx, a.w.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	filter := func(keep func(elicit.Revision) bool) []elicit.Revision {
+		var out []elicit.Revision
+		for _, r := range all {
+			if keep(r) {
+				out = append(out, r)
+			}
+		}
+		return out
+	}
+	ada, q0 := a.experts[0].ID, a.qs[0].ID
+
+	got, err := db.ExpertRevisions(ctx, ada)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := filter(func(r elicit.Revision) bool { return r.ExpertID == ada }); len(want) != 3 || !reflect.DeepEqual(got, want) {
+		t.Errorf("ExpertRevisions = %+v, want %+v", got, want)
+	}
+
+	got, err = db.QuestionExpertRevisions(ctx, q0, ada)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if want := filter(func(r elicit.Revision) bool { return r.ExpertID == ada && r.QuestionID == q0 }); len(want) != 2 || !reflect.DeepEqual(got, want) {
+		t.Errorf("QuestionExpertRevisions = %+v, want %+v", got, want)
+	}
+
+	got, err = db.LatestRevisions(ctx, q0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	latest := map[int64]int64{}
+	for _, r := range all {
+		if r.QuestionID == q0 {
+			latest[r.ExpertID] = r.ID
+		}
+	}
+	want := filter(func(r elicit.Revision) bool { return r.QuestionID == q0 && latest[r.ExpertID] == r.ID })
+	if len(want) != 3 || !reflect.DeepEqual(got, want) {
+		t.Errorf("LatestRevisions = %+v, want %+v", got, want)
+	}
+	if got[0].Answer.Values[1] != 0.32 || got[2].Answer.Values[1] != 0.36 {
+		t.Errorf("LatestRevisions did not pick the revisions saved last: %+v", got)
+	}
+
+	none, err := db.LatestRevisions(ctx, a.qs[1].ID+1000)
+	if err != nil || len(none) != 0 {
+		t.Errorf("LatestRevisions of an unknown question = %v, %v; want none", none, err)
+	}
+}
