@@ -279,7 +279,7 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	revs, err := s.store.Revisions(r.Context(), ws.ID)
+	revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -312,8 +312,7 @@ type expertScope struct {
 	expert   elicit.Expert
 	workshop elicit.Workshop
 	question elicit.Question
-	own      []elicit.Revision // oldest first
-	all      []elicit.Revision // every expert's revisions of the question
+	own      []elicit.Revision // oldest first; read by readOwn
 }
 
 // loadExpertScope finds the question in the expert's own workshop. A
@@ -334,24 +333,22 @@ func (s *Server) loadExpertScope(r *http.Request) (expertScope, error) {
 	if sc.workshop, err = s.store.Workshop(ctx, sc.expert.WorkshopID); err != nil {
 		return sc, err
 	}
-	revs, err := s.store.Revisions(ctx, sc.workshop.ID)
-	if err != nil {
-		return sc, err
-	}
-	for _, rv := range revs {
-		if rv.QuestionID != qid {
-			continue
-		}
-		sc.all = append(sc.all, rv)
-		if rv.ExpertID == sc.expert.ID {
-			sc.own = append(sc.own, rv)
-		}
-	}
 	return sc, nil
+}
+
+// readOwn reads the expert's own revisions of the question, for the
+// pages that show them; the preview fragment does without.
+func (s *Server) readOwn(r *http.Request, sc *expertScope) error {
+	var err error
+	sc.own, err = s.store.QuestionExpertRevisions(r.Context(), sc.question.ID, sc.expert.ID)
+	return err
 }
 
 func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	sc, err := s.loadExpertScope(r)
+	if err == nil {
+		err = s.readOwn(r, &sc)
+	}
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -359,9 +356,9 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	var typed map[string]string
 	var preview *previewView
 	if n := len(sc.own); n > 0 {
-		cur := sc.own[n-1].Answer
-		typed = answerValues(sc.question, cur)
-		if fit, err := sc.question.Fit(cur); err == nil {
+		cur := sc.own[n-1]
+		typed = answerValues(sc.question, cur.Answer)
+		if fit, err := fits.fit(sc.question, cur); err == nil {
 			preview = newPreview(sc.question, fit)
 		}
 	}
@@ -438,6 +435,10 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 		s.render(w, r, status, expertPreview(p))
 		return
 	}
+	if err := s.readOwn(r, &sc); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
 	applyErrors(&v.Form, f)
 	v.Preview = p
@@ -456,25 +457,38 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", MaxLongText, false)
 	a, fit, ok := readAnswer(sc.question, f)
-	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
-	applyErrors(&v.Form, f)
+	// The page is drawn again only when the save is refused; a saved
+	// answer redirects to the question's page.
+	again := func(status int, closed string, fit *elicit.Fit) {
+		if err := s.readOwn(r, &sc); err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		v := s.questionView(r, sc, formValues(f), f.Value("reason"))
+		applyErrors(&v.Form, f)
+		if fit == nil {
+			v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
+		} else {
+			v.Preview = newPreview(sc.question, *fit)
+		}
+		if closed != "" {
+			v.Open, v.Closed = false, closed
+		}
+		s.renderQuestion(w, r, status, sc, v)
+	}
 	if !ok || !f.OK() {
-		v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
-		s.renderQuestion(w, r, http.StatusUnprocessableEntity, sc, v)
+		again(http.StatusUnprocessableEntity, "", nil)
 		return
 	}
-	v.Preview = newPreview(sc.question, fit)
 	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
 	if !sc.workshop.Open {
-		v.Closed = closed
-		s.renderQuestion(w, r, http.StatusConflict, sc, v)
+		again(http.StatusConflict, closed, &fit)
 		return
 	}
 	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
 	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
 		if errors.Is(err, elicit.ErrRoundClosed) {
-			v.Open, v.Closed = false, closed
-			s.renderQuestion(w, r, http.StatusConflict, sc, v)
+			again(http.StatusConflict, closed, &fit)
 			return
 		}
 		s.fail(w, r, err)
@@ -525,7 +539,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 func newHistoryRow(q elicit.Question, rv elicit.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
 		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
-	if fit, err := q.Fit(rv.Answer); err == nil {
+	if fit, err := fits.fit(q, rv); err == nil {
 		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
 	}
 	return h
@@ -631,10 +645,14 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 			active[e.ID] = true
 		}
 	}
+	revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID)
+	if err != nil {
+		return nil
+	}
 	latest := map[int64]elicit.Revision{}
-	for _, rv := range sc.all {
+	for _, rv := range revs {
 		if active[rv.ExpertID] {
-			latest[rv.ExpertID] = rv // sc.all is oldest first
+			latest[rv.ExpertID] = rv
 		}
 	}
 	type other struct {
@@ -646,7 +664,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 	var pooled []elicit.ScaledBeta
 	q := sc.question
 	for id, rv := range latest {
-		fit, err := q.Fit(rv.Answer)
+		fit, err := fits.fit(q, rv)
 		if err != nil {
 			continue
 		}
