@@ -100,7 +100,7 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		Warnings:   []Warning{},
 	}
 	for i, p := range probs {
-		f.Fitted[i] = d.quantileNear(p, values[i])
+		f.Fitted[i] = d.quantileNearFrom(p, values[i], resid[i])
 		f.MaxProbError = math.Max(f.MaxProbError, math.Abs(f.ProbErrors[i]))
 	}
 	for k, p := range [3]float64{0.05, 0.5, 0.95} {
@@ -127,9 +127,20 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 // If the steps do not bring the residual down to rounding level it falls
 // back to Quantile.
 func (d ScaledBeta) quantileNear(p, x0 float64) float64 {
+	return d.quantileNearFrom(p, x0, math.NaN())
+}
+
+// quantileNearFrom is quantileNear when F(x0) − p = r0 is already known
+// (the fit's residual at a stated value); r0 NaN means unknown.
+func (d ScaledBeta) quantileNearFrom(p, x0, r0 float64) float64 {
 	u := d.toUnit(x0)
 	if u > 0 && u < 1 && p > 0 && p < 1 {
-		y, r := d.Beta.polishQuantile(p, u, 8)
+		var y, r float64
+		if math.IsNaN(r0) {
+			y, r = d.Beta.polishQuantile(p, u, 8)
+		} else {
+			y, r = d.Beta.polishQuantileFrom(p, u, r0, 8, d.Beta.quantileResid(p))
+		}
 		if math.Abs(r) <= 1e-13*math.Min(p, 1-p) {
 			return d.Lower + d.width()*y
 		}
