@@ -10,13 +10,18 @@ import (
 // Curve is one distribution to draw. Dist is used unless PDF and CDF are
 // given, as they are for a pooled mixture; Quantile, when given, is used
 // for the table's percentiles (otherwise CDF is inverted by bisection).
+// Components, when given, are the weighted Betas of the mixture that PDF
+// and CDF evaluate (elicit.Pool's components): the picture then samples
+// the mixture as Σ wᵢ fᵢ and Σ wᵢ Fᵢ of the components' remembered
+// samples instead of calling PDF and CDF at every point.
 type Curve struct {
-	Label    string
-	Role     Role
-	Dist     elicit.ScaledBeta
-	PDF      func(float64) float64
-	CDF      func(float64) float64
-	Quantile func(float64) float64
+	Label      string
+	Role       Role
+	Dist       elicit.ScaledBeta
+	PDF        func(float64) float64
+	CDF        func(float64) float64
+	Quantile   func(float64) float64
+	Components []elicit.Component
 }
 
 // Point is a value an expert stated and the cumulative probability they
@@ -73,16 +78,90 @@ const (
 	snap     = 0.12 // a gap to a bound smaller than this share of the span is closed
 )
 
-// window chooses the x range to draw: from the lowest 0.1% point to the
-// highest 99.9% point over all curves, stretched to cover extra points,
-// widened by a margin and snapped to a bound that is nearly reached.
-func window(lower, upper float64, curves []Curve, extra []float64) (x0, x1 float64) {
-	x0, x1 = math.Inf(1), math.Inf(-1)
-	for _, c := range curves {
-		if !c.valid() {
-			continue
+// curveSpan is what the layout needs of one curve besides its samples:
+// its lowest 0.1% and highest 99.9% points, its own window, the top of
+// its density over that window (when known before sampling) and its 5th,
+// 50th and 95th percentiles.
+type curveSpan struct {
+	lo, hi     float64
+	ownX0      float64
+	ownX1      float64
+	top        float64
+	topKnown   bool
+	percentile [3]float64
+}
+
+// span computes the curve's span on [lower, upper]; a Beta's is
+// remembered. A mixture with Components leaves its top to be found from
+// its samples.
+func (c Curve) span(lower, upper float64) curveSpan {
+	if !c.usesFuncs() {
+		return spans.get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+	}
+	return c.computeSpan(lower, upper)
+}
+
+func (c Curve) computeSpan(lower, upper float64) curveSpan {
+	s := curveSpan{lo: c.quantile(tailLow, lower, upper), hi: c.quantile(tailHigh, lower, upper)}
+	for k, q := range percentileProbs {
+		s.percentile[k] = c.quantile(q, lower, upper)
+	}
+	s.ownX0, s.ownX1 = window(lower, upper, [][2]float64{{s.lo, s.hi}}, nil)
+	if len(c.Components) > 0 {
+		return s
+	}
+	own := frame{X0: s.ownX0, X1: s.ownX1}
+	cxs := own.grid(gridPoints)
+	ys := make([]float64, len(cxs))
+	for k, x := range cxs {
+		ys[k] = c.pdf(x)
+	}
+	s.top, _ = densityCap(ys)
+	s.topKnown = true
+	return s
+}
+
+// sample returns the curve's density and CDF at xs, the grid of
+// gridPoints+1 points over [x0, x1]. The slices may be shared and must
+// not be modified.
+func (c Curve) sample(xs []float64, x0, x1 float64) sampled {
+	switch {
+	case !c.usesFuncs():
+		return samples.get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
+	case len(c.Components) > 0:
+		m := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
+		for _, comp := range c.Components {
+			part := Curve{Dist: comp.Dist}
+			if !part.valid() {
+				return evaluate(c, xs)
+			}
+			ps := part.sample(xs, x0, x1)
+			for k := range xs {
+				m.pdf[k] += comp.Weight * ps.pdf[k]
+				m.cdf[k] += comp.Weight * ps.cdf[k]
+			}
 		}
-		lo, hi := c.quantile(tailLow, lower, upper), c.quantile(tailHigh, lower, upper)
+		return m
+	}
+	return evaluate(c, xs)
+}
+
+func evaluate(c Curve, xs []float64) sampled {
+	s := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
+	for k, x := range xs {
+		s.pdf[k], s.cdf[k] = c.pdf(x), c.cdf(x)
+	}
+	return s
+}
+
+// window chooses the x range to draw: from the lowest 0.1% point to the
+// highest 99.9% point over all curves (tails holds each curve's pair),
+// stretched to cover extra points, widened by a margin and snapped to a
+// bound that is nearly reached.
+func window(lower, upper float64, tails [][2]float64, extra []float64) (x0, x1 float64) {
+	x0, x1 = math.Inf(1), math.Inf(-1)
+	for _, t := range tails {
+		lo, hi := t[0], t[1]
 		if isFinite(lo) {
 			x0 = math.Min(x0, lo)
 		}

@@ -47,13 +47,14 @@ func (f frame) grid(n int) []float64 {
 	return xs
 }
 
-// linePath draws y(x) over the grid as an SVG path, clipped to the plot
+// linePath draws ys[k] at xs[k] as an SVG path, clipped to the plot
 // area. It reports whether any part was cut at the top or bottom.
-func (f frame) linePath(xs []float64, y func(float64) float64) (d string, clipped bool) {
+func (f frame) linePath(xs, ys []float64) (d string, clipped bool) {
 	var b strings.Builder
+	b.Grow(14 * len(xs))
 	pen := false
-	for _, x := range xs {
-		row, c, ok := f.pyClip(y(x))
+	for k, x := range xs {
+		row, c, ok := f.pyClip(ys[k])
 		if !ok {
 			pen = false
 			continue
@@ -76,11 +77,12 @@ func (f frame) linePath(xs []float64, y func(float64) float64) (d string, clippe
 }
 
 // areaPath closes linePath down to the baseline, for a shaded density.
-func (f frame) areaPath(xs []float64, y func(float64) float64) string {
+func (f frame) areaPath(xs, ys []float64) string {
 	var b strings.Builder
+	b.Grow(16 * len(xs))
 	b.WriteString("M" + coord(f.px(xs[0])) + "," + coord(f.bottom()))
-	for _, x := range xs {
-		row, _, ok := f.pyClip(y(x))
+	for k, x := range xs {
+		row, _, ok := f.pyClip(ys[k])
 		if !ok {
 			row = f.bottom()
 		}

@@ -81,10 +81,7 @@ func newPanelModel(v PanelView) panelModel {
 			TextX: coord(x + 46), Label: c.Label, Role: l.Role,
 			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
 		}
-		p := [3]float64{}
-		for k, q := range percentileProbs {
-			p[k] = c.quantile(q, v.Lower, v.Upper)
-		}
+		p := g.percentiles[i]
 		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
 		if !c.usesFuncs() {
 			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatValue(c.Dist.Alpha), FormatValue(c.Dist.Beta.Beta))

@@ -73,6 +73,7 @@ type twinGeom struct {
 	DensityTop  float64
 	X0, X1      float64
 	dens, cumul frame
+	percentiles [][3]float64 // each drawn line's 5th, 50th and 95th percentiles
 }
 
 // axisTitle is "quantity (units)" or just the quantity.
@@ -91,29 +92,40 @@ func axisTitle(quantity, units string) string {
 // points) are kept inside the window. extraHeight adds rows below, for
 // a legend drawn by the caller.
 func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
-	x0, x1 := window(lower, upper, curves, extra)
+	sp := make([]curveSpan, len(curves))
+	var tails [][2]float64
+	for i, c := range curves {
+		if c.valid() {
+			sp[i] = c.span(lower, upper)
+			tails = append(tails, [2]float64{sp[i].lo, sp[i].hi})
+		}
+	}
+	x0, x1 := window(lower, upper, tails, extra)
 	g := twinGeom{X0: x0, X1: x1}
 	dens := frame{Left: twinLeft, Top: twinTop, Width: twinPlotW, Height: twinDensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	cumul := frame{Left: twinLeft, Top: twinTop + twinDensityH + twinGap, Width: twinPlotW, Height: twinCDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	xs := dens.grid(gridPoints)
+	ys := make([]sampled, len(curves))
+	for i, c := range curves {
+		if c.valid() {
+			ys[i] = c.sample(xs, x0, x1)
+		}
+	}
 
 	// The density axis's top: the tallest curve's own top, each sampled
 	// over its own window, so a narrow expert is neither flattened by a
 	// wide one nor mistaken for a spike; only a density that rises towards
-	// a bound is cut.
+	// a bound is cut. A mixture's own window lies inside the picture's, so
+	// its top is read from its samples there.
 	top := 0.0
-	for _, c := range curves {
+	for i, c := range curves {
 		if !c.valid() {
 			continue
 		}
-		cx0, cx1 := window(lower, upper, []Curve{c}, nil)
-		own := frame{X0: cx0, X1: cx1}
-		cxs := own.grid(gridPoints)
-		samples := make([]float64, len(cxs))
-		for k, x := range cxs {
-			samples[k] = c.pdf(x)
+		t := sp[i].top
+		if !sp[i].topKnown {
+			t = ownTop(c, sp[i], xs, ys[i].pdf)
 		}
-		t, _ := densityCap(samples)
 		top = math.Max(top, t)
 	}
 	if !(top > 0) || !isFinite(top) {
@@ -128,14 +140,15 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 			continue
 		}
 		st := styleFor(c.Role, expertIndex(curves, i))
-		dd, clipped := dens.linePath(xs, c.pdf)
-		cd, _ := cumul.linePath(xs, c.cdf)
+		dd, clipped := dens.linePath(xs, ys[i].pdf)
+		cd, _ := cumul.linePath(xs, ys[i].cdf)
 		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: dd, Cumul: cd,
 			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
 		if area {
-			l.Area = dens.areaPath(xs, c.pdf)
+			l.Area = dens.areaPath(xs, ys[i].pdf)
 		}
 		g.Lines = append(g.Lines, l)
+		g.percentiles = append(g.percentiles, sp[i].percentile)
 		if clipped {
 			g.ClippedBy = append(g.ClippedBy, c.Label)
 		}
@@ -175,6 +188,24 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 	g.Height = cumul.bottom() + twinBelow + 15*float64(len(g.Notes))
 	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
 	return g
+}
+
+// ownTop is the density cap of a mixture over its own window, from its
+// samples on the picture's grid that fall inside that window; with too
+// few of them it samples the window itself.
+func ownTop(c Curve, s curveSpan, xs, pdf []float64) float64 {
+	var in []float64
+	for k, x := range xs {
+		if x >= s.ownX0 && x <= s.ownX1 {
+			in = append(in, pdf[k])
+		}
+	}
+	if len(in) < gridPoints/4 {
+		own := frame{X0: s.ownX0, X1: s.ownX1}
+		in = evaluate(c, own.grid(gridPoints)).pdf
+	}
+	t, _ := densityCap(in)
+	return t
 }
 
 // expertIndex counts the experts before curve i, so the k-th expert gets

@@ -1,0 +1,117 @@
+package chart
+
+import (
+	"fmt"
+	"reflect"
+	"sync"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// panelOf is an invented panel: experts' Betas on [0, 1] and their
+// equal-weight pool, drawn with or without the pool's components.
+func panelOf(t testing.TB, withComponents bool, dists ...elicit.ScaledBeta) PanelView {
+	t.Helper()
+	v := PanelView{ID: "p", Quantity: "Failure share", Lower: 0, Upper: 1}
+	for i, d := range dists {
+		v.Curves = append(v.Curves, Curve{Label: fmt.Sprintf("Expert %d", i+1), Role: RoleExpert, Dist: d})
+	}
+	pool, err := elicit.LinearPool(dists, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	c := Curve{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile}
+	if withComponents {
+		c.Components = pool.Components
+	}
+	v.Curves = append(v.Curves, c)
+	return v
+}
+
+// Sampling a pool as the weighted sum of its components' samples draws
+// the same picture as evaluating the pool's own PDF and CDF at every
+// point: the same paths to the hundredth of a pixel, the same legend.
+func TestPoolFromComponentsDrawsThePool(t *testing.T) {
+	for _, tt := range []struct {
+		name  string
+		dists []elicit.ScaledBeta
+	}{
+		{"three overlapping", []elicit.ScaledBeta{sbeta(2, 8, 0, 1), sbeta(3, 5, 0, 1), sbeta(5, 5, 0, 1)}},
+		{"one narrow, one wide", []elicit.ScaledBeta{sbeta(40, 160, 0, 1), sbeta(1.5, 3, 0, 1)}},
+		{"one expert", []elicit.ScaledBeta{sbeta(4, 12, 0, 1)}},
+	} {
+		direct := newPanelModel(panelOf(t, false, tt.dists...))
+		summed := newPanelModel(panelOf(t, true, tt.dists...))
+		if direct.Invalid != "" || len(direct.Twin.Lines) != len(tt.dists)+1 {
+			t.Fatalf("%s: panel not drawn: %q", tt.name, direct.Invalid)
+		}
+		for i := range direct.Twin.Lines {
+			d, s := direct.Twin.Lines[i], summed.Twin.Lines[i]
+			if d.Density != s.Density || d.Cumul != s.Cumul {
+				t.Errorf("%s: %s drawn differently from the components:\ndensity %.120s\n     vs %.120s", tt.name, d.Label, d.Density, s.Density)
+			}
+		}
+		if !reflect.DeepEqual(direct.Legend, summed.Legend) || direct.Desc != summed.Desc {
+			t.Errorf("%s: legend or description differ:\n%+v\n%+v", tt.name, direct.Legend, summed.Legend)
+		}
+	}
+}
+
+// Drawing a panel again gives the same picture; a changed curve is drawn
+// from its own parameters, not from what was remembered for another.
+func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
+	a := []elicit.ScaledBeta{sbeta(2, 8, 0, 1), sbeta(3, 5, 0, 1), sbeta(5, 5, 0, 1)}
+	first := newPanelModel(panelOf(t, true, a...))
+	again := newPanelModel(panelOf(t, true, a...))
+	if !reflect.DeepEqual(first, again) {
+		t.Error("the same panel drawn twice differs")
+	}
+	b := append([]elicit.ScaledBeta(nil), a...)
+	b[1] = sbeta(3.5, 5, 0, 1) // one expert revises; the window barely moves
+	changed := newPanelModel(panelOf(t, true, b...))
+	spans.reset()
+	samples.reset()
+	fresh := newPanelModel(panelOf(t, true, b...))
+	if !reflect.DeepEqual(changed, fresh) {
+		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
+	}
+	if changed.Twin.Lines[1].Cumul == first.Twin.Lines[1].Cumul {
+		t.Error("the revised expert's curve is the one drawn before the revision")
+	}
+}
+
+func TestMemoBoundedAndConcurrent(t *testing.T) {
+	m := newMemo[int, int](8)
+	calls := 0
+	var mu sync.Mutex
+	sq := func(k int) func() int {
+		return func() int { mu.Lock(); calls++; mu.Unlock(); return k * k }
+	}
+	for k := range 50 {
+		if got := m.get(k, sq(k)); got != k*k {
+			t.Fatalf("get(%d) = %d", k, got)
+		}
+		if m.len() > 8 {
+			t.Fatalf("memo of size 8 holds %d", m.len())
+		}
+	}
+	if m.get(49, sq(49)) != 49*49 || calls != 50 {
+		t.Errorf("%d computations for 50 keys and one repeat, want 50", calls)
+	}
+	var wg sync.WaitGroup
+	for g := range 8 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range 200 {
+				k := (i + g) % 13
+				if got := m.get(k, sq(k)); got != k*k {
+					t.Errorf("get(%d) = %d", k, got)
+					return
+				}
+			}
+		}()
+	}
+	wg.Wait()
+}
