@@ -55,8 +55,35 @@ func FormatPercent(p float64) string {
 // non-finite values first; this is the last line of defence and writes 0
 // rather than NaN.
 func coord(v float64) string {
+	var buf [24]byte
+	return string(appendCoord(buf[:0], v))
+}
+
+// appendCoord appends coord(v) to b. Pixel coordinates are written many
+// thousand times a page, so those below 1e12 take an integer path that
+// writes the same digits as strconv.FormatFloat(math.Round(v*100)/100,
+// 'f', -1, 64): the shortest decimal of a hundredth is the hundredth
+// itself, zeros trimmed.
+func appendCoord(b []byte, v float64) []byte {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
-		return "0"
+		return append(b, '0')
 	}
-	return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
+	r := math.Round(v * 100)
+	if math.Abs(r) >= 1e14 || (r == 0 && math.Signbit(r)) {
+		return strconv.AppendFloat(b, r/100, 'f', -1, 64)
+	}
+	n := int64(r)
+	if n < 0 {
+		b = append(b, '-')
+		n = -n
+	}
+	b = strconv.AppendInt(b, n/100, 10)
+	switch frac := n % 100; {
+	case frac == 0:
+	case frac%10 == 0:
+		b = append(b, '.', byte('0'+frac/10))
+	default:
+		b = append(b, '.', byte('0'+frac/10), byte('0'+frac%10))
+	}
+	return b
 }

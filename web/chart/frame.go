@@ -3,7 +3,6 @@ package chart
 import (
 	"fmt"
 	"math"
-	"strings"
 )
 
 // frame is one plot area: a data window mapped onto a pixel rectangle.
@@ -50,8 +49,7 @@ func (f frame) grid(n int) []float64 {
 // linePath draws ys[k] at xs[k] as an SVG path, clipped to the plot
 // area. It reports whether any part was cut at the top or bottom.
 func (f frame) linePath(xs, ys []float64) (d string, clipped bool) {
-	var b strings.Builder
-	b.Grow(14 * len(xs))
+	b := make([]byte, 0, 16*len(xs))
 	pen := false
 	for k, x := range xs {
 		row, c, ok := f.pyClip(ys[k])
@@ -61,35 +59,44 @@ func (f frame) linePath(xs, ys []float64) (d string, clipped bool) {
 		}
 		clipped = clipped || c
 		if pen {
-			b.WriteString(" L")
+			b = append(b, " L"...)
 		} else {
-			if b.Len() > 0 {
-				b.WriteString(" ")
+			if len(b) > 0 {
+				b = append(b, ' ')
 			}
-			b.WriteString("M")
+			b = append(b, 'M')
 		}
-		b.WriteString(coord(f.px(x)))
-		b.WriteString(",")
-		b.WriteString(coord(row))
+		b = appendCoord(b, f.px(x))
+		b = append(b, ',')
+		b = appendCoord(b, row)
 		pen = true
 	}
-	return b.String(), clipped
+	return string(b), clipped
 }
 
 // areaPath closes linePath down to the baseline, for a shaded density.
 func (f frame) areaPath(xs, ys []float64) string {
-	var b strings.Builder
-	b.Grow(16 * len(xs))
-	b.WriteString("M" + coord(f.px(xs[0])) + "," + coord(f.bottom()))
+	b := make([]byte, 0, 16*len(xs)+32)
+	b = append(b, 'M')
+	b = appendCoord(b, f.px(xs[0]))
+	b = append(b, ',')
+	b = appendCoord(b, f.bottom())
 	for k, x := range xs {
 		row, _, ok := f.pyClip(ys[k])
 		if !ok {
 			row = f.bottom()
 		}
-		b.WriteString(" L" + coord(f.px(x)) + "," + coord(row))
+		b = append(b, " L"...)
+		b = appendCoord(b, f.px(x))
+		b = append(b, ',')
+		b = appendCoord(b, row)
 	}
-	b.WriteString(" L" + coord(f.px(xs[len(xs)-1])) + "," + coord(f.bottom()) + " Z")
-	return b.String()
+	b = append(b, " L"...)
+	b = appendCoord(b, f.px(xs[len(xs)-1]))
+	b = append(b, ',')
+	b = appendCoord(b, f.bottom())
+	b = append(b, " Z"...)
+	return string(b)
 }
 
 // coordShift adds d pixels to a coordinate written by coord.

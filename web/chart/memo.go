@@ -80,9 +80,25 @@ type sampled struct {
 	pdf, cdf []float64
 }
 
+// pathKey is a Beta curve's pair of lines in a twin whose x window is
+// [x0, x1] and whose density axis stops at top; area adds the shaded
+// density.
+type pathKey struct {
+	dist        elicit.ScaledBeta
+	x0, x1, top float64
+	area        bool
+}
+
+// paths are a curve's SVG path data in both plots.
+type paths struct {
+	density, cumul, area string
+	clipped              bool
+}
+
 // Sizes: a workshop of 200 experts and 10 questions has 2000 current
 // curves; a sampled curve is about 5 kB.
 var (
 	spans   = newMemo[spanKey, curveSpan](8192)
 	samples = newMemo[gridKey, sampled](4096)
+	drawn   = newMemo[pathKey, paths](4096) // about 9 kB each
 )

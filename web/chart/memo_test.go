@@ -2,7 +2,10 @@ package chart
 
 import (
 	"fmt"
+	"math"
+	"math/rand/v2"
 	"reflect"
+	"strconv"
 	"sync"
 	"testing"
 
@@ -72,6 +75,7 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	changed := newPanelModel(panelOf(t, true, b...))
 	spans.reset()
 	samples.reset()
+	drawn.reset()
 	fresh := newPanelModel(panelOf(t, true, b...))
 	if !reflect.DeepEqual(changed, fresh) {
 		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
@@ -114,4 +118,26 @@ func TestMemoBoundedAndConcurrent(t *testing.T) {
 		}()
 	}
 	wg.Wait()
+}
+
+// appendCoord's integer path writes what the general float formatting of
+// the rounded hundredth writes.
+func TestCoordMatchesFloatFormatting(t *testing.T) {
+	ref := func(v float64) string {
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return "0"
+		}
+		return strconv.FormatFloat(math.Round(v*100)/100, 'f', -1, 64)
+	}
+	vals := []float64{0, math.Copysign(0, -1), -0.001, 0.004, -0.004, 0.005, 0.015, 0.1, 0.25, 1, 69.995, 70, 610.12, -3.5, 1234.567,
+		999999.999, 1e11 + 0.37, 1e13, 1e15 + 0.5, -1e16, math.NaN(), math.Inf(1), math.Inf(-1), math.MaxFloat64}
+	rng := rand.New(rand.NewPCG(4, 2026))
+	for range 20000 {
+		vals = append(vals, (rng.Float64()-0.2)*800, rng.NormFloat64()*1e6)
+	}
+	for _, v := range vals {
+		if got, want := coord(v), ref(v); got != want {
+			t.Errorf("coord(%v) = %q, want %q", v, got, want)
+		}
+	}
 }

@@ -140,16 +140,26 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 			continue
 		}
 		st := styleFor(c.Role, expertIndex(curves, i))
-		dd, clipped := dens.linePath(xs, ys[i].pdf)
-		cd, _ := cumul.linePath(xs, ys[i].cdf)
-		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: dd, Cumul: cd,
-			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
-		if area {
-			l.Area = dens.areaPath(xs, ys[i].pdf)
+		draw := func() paths {
+			var p paths
+			p.density, p.clipped = dens.linePath(xs, ys[i].pdf)
+			p.cumul, _ = cumul.linePath(xs, ys[i].cdf)
+			if area {
+				p.area = dens.areaPath(xs, ys[i].pdf)
+			}
+			return p
 		}
+		var p paths
+		if c.usesFuncs() {
+			p = draw()
+		} else {
+			p = drawn.get(pathKey{c.Dist, x0, x1, top, area}, draw)
+		}
+		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: p.density, Cumul: p.cumul, Area: p.area,
+			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
 		g.Lines = append(g.Lines, l)
 		g.percentiles = append(g.percentiles, sp[i].percentile)
-		if clipped {
+		if p.clipped {
 			g.ClippedBy = append(g.ClippedBy, c.Label)
 		}
 	}
