@@ -690,7 +690,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 	}
 	if pool, err := elicit.LinearPool(pooled, nil); err == nil {
 		v.Curves = append(v.Curves, chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
-			PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Components: pool.Components})
+			PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components})
 	}
 	return v
 }

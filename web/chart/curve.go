@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"errors"
 	"math"
 	"sort"
 
@@ -13,7 +14,10 @@ import (
 // Components, when given, are the weighted Betas of the mixture that PDF
 // and CDF evaluate (elicit.Pool's components): the picture then samples
 // the mixture as Σ wᵢ fᵢ and Σ wᵢ Fᵢ of the components' remembered
-// samples instead of calling PDF and CDF at every point.
+// samples instead of calling PDF and CDF at every point. Quantiles, when
+// given, finds several increasing quantiles at once (elicit.Pool's
+// Quantiles, cheaper than one Quantile call each) and is preferred to
+// Quantile.
 type Curve struct {
 	Label      string
 	Role       Role
@@ -21,6 +25,7 @@ type Curve struct {
 	PDF        func(float64) float64
 	CDF        func(float64) float64
 	Quantile   func(float64) float64
+	Quantiles  func([]float64) ([]float64, error)
 	Components []elicit.Component
 }
 
@@ -48,6 +53,16 @@ func (c Curve) cdf(x float64) float64 {
 	}
 	return c.Dist.CDF(x)
 }
+
+// quantiles is c.Quantiles, or an error when it is not given.
+func (c Curve) quantiles(probs []float64) ([]float64, error) {
+	if c.Quantiles == nil {
+		return nil, errNoQuantiles
+	}
+	return c.Quantiles(probs)
+}
+
+var errNoQuantiles = errors.New("chart: the curve has no Quantiles")
 
 // quantile inverts the curve's CDF on [lower, upper].
 func (c Curve) quantile(p, lower, upper float64) float64 {
@@ -102,9 +117,16 @@ func (c Curve) span(lower, upper float64) curveSpan {
 }
 
 func (c Curve) computeSpan(lower, upper float64) curveSpan {
-	s := curveSpan{lo: c.quantile(tailLow, lower, upper), hi: c.quantile(tailHigh, lower, upper)}
-	for k, q := range percentileProbs {
-		s.percentile[k] = c.quantile(q, lower, upper)
+	var s curveSpan
+	probs := []float64{tailLow, percentileProbs[0], percentileProbs[1], percentileProbs[2], tailHigh}
+	if qs, err := c.quantiles(probs); err == nil && len(qs) == len(probs) {
+		s.lo, s.hi = qs[0], qs[4]
+		copy(s.percentile[:], qs[1:4])
+	} else {
+		s.lo, s.hi = c.quantile(tailLow, lower, upper), c.quantile(tailHigh, lower, upper)
+		for k, q := range percentileProbs {
+			s.percentile[k] = c.quantile(q, lower, upper)
+		}
 	}
 	s.ownX0, s.ownX1 = window(lower, upper, [][2]float64{{s.lo, s.hi}}, nil)
 	if len(c.Components) > 0 {

@@ -24,7 +24,7 @@ func panelOf(t testing.TB, withComponents bool, dists ...elicit.ScaledBeta) Pane
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := Curve{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile}
+	c := Curve{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles}
 	if withComponents {
 		c.Components = pool.Components
 	}
