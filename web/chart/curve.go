@@ -118,6 +118,9 @@ func (c Curve) span(lower, upper float64) curveSpan {
 
 func (c Curve) computeSpan(lower, upper float64) curveSpan {
 	var s curveSpan
+	if len(c.Components) > 0 {
+		return c.mixtureSpan(lower, upper)
+	}
 	probs := []float64{tailLow, percentileProbs[0], percentileProbs[1], percentileProbs[2], tailHigh}
 	if qs, err := c.quantiles(probs); err == nil && len(qs) == len(probs) {
 		s.lo, s.hi = qs[0], qs[4]
@@ -129,9 +132,6 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 		}
 	}
 	s.ownX0, s.ownX1 = window(lower, upper, [][2]float64{{s.lo, s.hi}}, nil)
-	if len(c.Components) > 0 {
-		return s
-	}
 	own := frame{X0: s.ownX0, X1: s.ownX1}
 	cxs := own.grid(gridPoints)
 	ys := make([]float64, len(cxs))
@@ -140,6 +140,31 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 	}
 	s.top, _ = densityCap(ys)
 	s.topKnown = true
+	return s
+}
+
+// mixtureSpan is the span of a mixture with Components. Its tails lie
+// between its components' (Σ wᵢ Fᵢ(x) ≤ p wherever every Fᵢ(x) ≤ p), so
+// the components' remembered tails stand in for its own in the window;
+// only its percentiles are solved for. Its own window and top are found
+// later from its samples (ownTop).
+func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
+	s := curveSpan{lo: math.Inf(1), hi: math.Inf(-1)}
+	for _, comp := range c.Components {
+		part := Curve{Dist: comp.Dist}
+		if !part.valid() {
+			continue
+		}
+		ps := part.span(lower, upper)
+		s.lo, s.hi = math.Min(s.lo, ps.lo), math.Max(s.hi, ps.hi)
+	}
+	if qs, err := c.quantiles(percentileProbs[:]); err == nil && len(qs) == 3 {
+		copy(s.percentile[:], qs)
+	} else {
+		for k, q := range percentileProbs {
+			s.percentile[k] = c.quantile(q, lower, upper)
+		}
+	}
 	return s
 }
 

@@ -124,7 +124,7 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		}
 		t := sp[i].top
 		if !sp[i].topKnown {
-			t = ownTop(c, sp[i], xs, ys[i].pdf)
+			t = ownTop(c, lower, upper, xs, ys[i])
 		}
 		top = math.Max(top, t)
 	}
@@ -200,22 +200,40 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 	return g
 }
 
-// ownTop is the density cap of a mixture over its own window, from its
-// samples on the picture's grid that fall inside that window; with too
-// few of them it samples the window itself.
-func ownTop(c Curve, s curveSpan, xs, pdf []float64) float64 {
+// ownTop is the density cap of a mixture over its own window: the
+// window of its 0.1% and 99.9% points, read off its sampled CDF by linear
+// interpolation between grid points, using its samples on the picture's
+// grid inside that window; with too few of them it samples the window
+// itself.
+func ownTop(c Curve, lower, upper float64, xs []float64, ys sampled) float64 {
+	lo, hi := crossing(xs, ys.cdf, tailLow), crossing(xs, ys.cdf, tailHigh)
+	x0, x1 := window(lower, upper, [][2]float64{{lo, hi}}, nil)
 	var in []float64
 	for k, x := range xs {
-		if x >= s.ownX0 && x <= s.ownX1 {
-			in = append(in, pdf[k])
+		if x >= x0 && x <= x1 {
+			in = append(in, ys.pdf[k])
 		}
 	}
 	if len(in) < gridPoints/4 {
-		own := frame{X0: s.ownX0, X1: s.ownX1}
+		own := frame{X0: x0, X1: x1}
 		in = evaluate(c, own.grid(gridPoints)).pdf
 	}
 	t, _ := densityCap(in)
 	return t
+}
+
+// crossing is where the sampled increasing cdf first reaches p, by linear
+// interpolation; the grid's ends when it starts above p or never gets there.
+func crossing(xs, cdf []float64, p float64) float64 {
+	for k := range xs {
+		if cdf[k] >= p {
+			if k == 0 || !(cdf[k] > cdf[k-1]) {
+				return xs[k]
+			}
+			return xs[k-1] + (xs[k]-xs[k-1])*(p-cdf[k-1])/(cdf[k]-cdf[k-1])
+		}
+	}
+	return xs[len(xs)-1]
 }
 
 // expertIndex counts the experts before curve i, so the k-th expert gets
