@@ -104,7 +104,7 @@ func (d workshopData) state(q elicit.Question) questionState {
 			}
 		}
 		if row.Revision != nil {
-			fit, err := q.Fit(row.Revision.Answer)
+			fit, err := fits.fit(q, *row.Revision)
 			if err != nil {
 				row.FitError = err.Error()
 			} else {
@@ -167,7 +167,8 @@ func (st questionState) chartView() chart.PanelView {
 	}
 	if st.Pool != nil {
 		p := st.Pool
-		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile})
+		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF,
+			Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components})
 	}
 	if a := st.current(); a != nil {
 		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
