@@ -191,3 +191,37 @@ func params2(t *testing.T, q elicit.Question, vals ...float64) string {
 	}
 	return "Beta(α = " + chart.FormatValue(fit.Dist.Alpha) + ", β = " + chart.FormatValue(fit.Dist.Beta.Beta) + ")"
 }
+
+// The live preview's fragment, even in round 2 with a panel on the page
+// and a history behind it, carries only the fitted picture and its
+// read-backs.
+func TestPreviewFragmentIsOnlyTheFit(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	for i, vals := range [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}} {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(vals...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, "What the other experts said") || !strings.Contains(page, "Your history") {
+		t.Fatal("the round 2 page lacks the panel or the history the fragment must leave out")
+	}
+	resp, frag := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.06", "0.21", "0.41"))
+	if resp.StatusCode != http.StatusOK {
+		t.Fatalf("fragment: status %d", resp.StatusCode)
+	}
+	if want := params2(t, g.q, 0.06, 0.21, 0.41); !strings.Contains(frag, want) || !strings.Contains(frag, "You are saying") {
+		t.Errorf("fragment lacks the fit %s or its read-backs", want)
+	}
+	for _, absent := range []string{"What the other experts said", "Your history", "Equal-weight pool", `data-label="Expert 1"`, "<html"} {
+		if strings.Contains(frag, absent) {
+			t.Errorf("fragment carries %q", absent)
+		}
+	}
+}
