@@ -12,6 +12,7 @@ import (
 	"io"
 	"os"
 	"sort"
+	"strings"
 )
 
 // subcommand is one `parley NAME` command. It returns the exit status.
@@ -33,11 +34,16 @@ func main() {
 
 // dispatch runs the named subcommand; with no arguments it serves.
 func dispatch(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	if len(args) == 1 && (args[0] == "-h" || args[0] == "--help") {
+		usage(stdout)
+		return 0
+	}
+	// With no command, or only flags (`parley --addr ...`), Parley serves.
 	name := "serve"
-	if len(args) > 0 {
+	if len(args) > 0 && !strings.HasPrefix(args[0], "-") {
 		name, args = args[0], args[1:]
 	}
-	if name == "help" || name == "-h" || name == "--help" {
+	if name == "help" {
 		usage(stdout)
 		return 0
 	}
