@@ -315,8 +315,9 @@ func TestScriptingBinary(t *testing.T) {
 
 func TestPoolWithoutSingleBeta(t *testing.T) {
 	// Beta(5, 0.001) (invented, extreme): its grid quantiles crowd within
-	// an ulp of 1 and no Beta inside the fitter's range represents it, so
-	// the pool is printed with "beta": null and a warning, not an error.
+	// an ulp of 1 and no Beta inside the fitter's range represents it
+	// well, so the pool is printed with a warning, not an error: either
+	// "beta": null, or a Beta whose distance from the pool is flagged.
 	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
@@ -327,10 +328,46 @@ func TestPoolWithoutSingleBeta(t *testing.T) {
 		Mean     float64
 	}
 	decodeJSON(t, out, &got)
-	if got.Beta != nil || len(got.Warnings) != 1 || !strings.Contains(got.Warnings[0], "no single Beta") {
+	switch {
+	case len(got.Warnings) != 1:
+		t.Errorf("beta %v, warnings %q; want one warning", got.Beta, got.Warnings)
+	case got.Beta == nil && !strings.Contains(got.Warnings[0], "no single Beta"),
+		got.Beta != nil && !strings.Contains(got.Warnings[0], "far from the pool"):
 		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
 	}
 	if want := 5 / 5.001; math.Abs(got.Mean-want) > 1e-15 {
 		t.Errorf("mean %v, want %v", got.Mean, want)
+	}
+}
+
+// Two experts who disagree sharply (invented: Beta(2, 30) and Beta(30, 2))
+// pool to a bimodal mixture no single Beta is close to; the command says
+// so, while a pool of two close experts carries no warning.
+func TestPoolFarFromOneBetaWarns(t *testing.T) {
+	code, out, errOut := runCLI(t, `{"experts":[{"alpha":2,"beta":30},{"alpha":30,"beta":2}]}`, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Beta    *elicit.Beta
+		BetaFit struct {
+			MaxCDFError float64 `json:"max_cdf_error"`
+		} `json:"beta_fit"`
+		Warnings []string
+	}
+	decodeJSON(t, out, &got)
+	if got.Beta == nil || got.BetaFit.MaxCDFError <= elicit.PoorFitThreshold ||
+		len(got.Warnings) != 1 || !strings.Contains(got.Warnings[0], "far from the pool") {
+		t.Errorf("bimodal pool: beta %v, max CDF gap %v, warnings %q", got.Beta, got.BetaFit.MaxCDFError, got.Warnings)
+	}
+
+	code, out, errOut = runCLI(t, `{"experts":[{"alpha":4,"beta":60},{"alpha":5,"beta":70}]}`, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	got.Warnings = nil
+	decodeJSON(t, out, &got)
+	if len(got.Warnings) != 0 {
+		t.Errorf("close experts: warnings %q, want none", got.Warnings)
 	}
 }

@@ -220,6 +220,11 @@ func poolResult(in poolInput) (poolOutput, error) {
 		default:
 			out.Beta = &r.Dist.Beta
 			out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]}}
+			// The same 0.05 the fit of one expert is judged by.
+			if r.MaxCDFError > elicit.PoorFitThreshold {
+				out.Warnings = append(out.Warnings, fmt.Sprintf(
+					"the single Beta is far from the pool: their CDFs differ by up to %.3g; report the pool itself or agree a consensus judgement", r.MaxCDFError))
+			}
 		}
 	case "log":
 		out.Method = "log"
