@@ -63,6 +63,7 @@ type expertQuestionView struct {
 	Closed   string // a message when a save was refused because the round is closed
 	History  []historyRow
 	Panel    *chart.PanelView
+	Spread   *chart.SpreadView // instead of Panel when the panel is large
 }
 
 type expertQuestionInfo struct {
@@ -595,7 +596,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
 	if sc.workshop.Round >= 2 {
-		v.Panel = s.anonymousPanel(r, sc)
+		v.Panel, v.Spread = s.anonymousPanel(r, sc)
 	}
 	return v
 }
@@ -698,10 +699,12 @@ func problemSummary(af answerForm, f *Form) string {
 // curves without names, in an order fixed by a hash of the question and
 // the expert (not by name, id or time of answer), beside the asking
 // expert's own current curve and the equal-weight pool of everyone's.
-func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelView {
+// Beyond overlayLimit other experts it returns a spread instead: the own
+// curve and the pool, with each other expert as one interval.
+func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView) {
 	experts, err := s.store.Experts(r.Context(), sc.workshop.ID)
 	if err != nil {
-		return nil
+		return nil, nil
 	}
 	active := map[int64]bool{}
 	for _, e := range experts {
@@ -711,7 +714,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 	}
 	revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID)
 	if err != nil {
-		return nil
+		return nil, nil
 	}
 	latest := map[int64]elicit.Revision{}
 	for _, rv := range revs {
@@ -742,9 +745,23 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 		others = append(others, other{key: hex.EncodeToString(sum[:]), dist: fit.Dist})
 	}
 	if len(others) == 0 {
-		return nil
+		return nil, nil
 	}
 	sort.Slice(others, func(i, j int) bool { return others[i].key < others[j].key })
+	pool, poolErr := elicit.LinearPool(pooled, nil)
+	if len(others) > overlayLimit {
+		sp := &chart.SpreadView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+		if own != nil {
+			sp.Curves = append(sp.Curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
+		}
+		if poolErr == nil {
+			sp.Curves = append(sp.Curves, poolCurve(pool))
+		}
+		for _, o := range others {
+			sp.Others = append(sp.Others, o.dist)
+		}
+		return nil, sp
+	}
 	v := &chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	if own != nil {
 		v.Curves = append(v.Curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
@@ -752,9 +769,20 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) *chart.PanelVie
 	for i, o := range others {
 		v.Curves = append(v.Curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: o.dist})
 	}
-	if pool, err := elicit.LinearPool(pooled, nil); err == nil {
-		v.Curves = append(v.Curves, chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
-			PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components})
+	if poolErr == nil {
+		v.Curves = append(v.Curves, poolCurve(pool))
 	}
-	return v
+	return v, nil
+}
+
+// overlayLimit is the most other experts whose curves are overlaid one by
+// one. Beyond a dozen, overlaid curves cannot be told apart anyway (the
+// line styles repeat and the lines merge into a band), and the page grows
+// with every curve; a larger panel is drawn as a spread of intervals.
+const overlayLimit = 12
+
+// poolCurve is the equal-weight pool as a curve to draw.
+func poolCurve(pool elicit.Pool) chart.Curve {
+	return chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
+		PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components}
 }
