@@ -72,7 +72,10 @@ func newSpreadModel(v SpreadView) spreadModel {
 		if d.Validate() != nil {
 			continue
 		}
-		r := interval{d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)}
+		// The span holds the Beta's 5th, 50th and 95th percentiles and is
+		// remembered, so a page view does not invert every CDF again.
+		p := Curve{Dist: d}.span(v.Lower, v.Upper).percentile
+		r := interval{p[0], p[1], p[2]}
 		if isFinite(r.p5) && isFinite(r.p50) && isFinite(r.p95) {
 			iv = append(iv, r)
 		}
