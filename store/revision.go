@@ -101,35 +101,8 @@ func (db *DB) Revisions(ctx context.Context, workshopID int64) ([]elicit.Revisio
 }
 
 func readRevisions(ctx context.Context, db querier, workshopID int64) ([]elicit.Revision, error) {
-	rows, err := db.QueryContext(ctx,
-		`SELECT r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
-		        r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts
+	return scanRevisions(db.QueryContext(ctx,
+		`SELECT `+revisionColumns+`
 		 FROM revisions r JOIN questions q ON q.id = r.question_id
-		 WHERE q.workshop_id = ? ORDER BY r.id`, workshopID)
-	if err != nil {
-		return nil, fmt.Errorf("store: revisions: %w", err)
-	}
-	defer rows.Close()
-	var rs []elicit.Revision
-	for rows.Next() {
-		var (
-			r              elicit.Revision
-			at, vs, counts string
-		)
-		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
-			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts); err != nil {
-			return nil, fmt.Errorf("store: read revision: %w", err)
-		}
-		if r.At, err = parseTime(at); err != nil {
-			return nil, err
-		}
-		if err := unmarshalList(vs, &r.Answer.Values); err != nil {
-			return nil, err
-		}
-		if err := unmarshalList(counts, &r.Answer.Counts); err != nil {
-			return nil, err
-		}
-		rs = append(rs, r)
-	}
-	return rs, rows.Err()
+		 WHERE q.workshop_id = ? ORDER BY r.id`, workshopID))
 }
