@@ -221,7 +221,7 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 				continue
 			}
 			dists = append(dists, rv.Fit.Dist)
-			weights = append(weights, weightOf(src.Weights, e.ID))
+			weights = append(weights, src.Weights.Of(e.ID))
 			pooled = append(pooled, e.ID)
 		}
 		if len(dists) > 0 {
@@ -245,13 +245,6 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 	}
 	r.Performance, r.PerformanceNote = recordPerformance(src)
 	return r, nil
-}
-
-func weightOf(w Weights, expertID int64) float64 {
-	if w.Scheme == WeightsEqual || w.Scheme == "" {
-		return 1
-	}
-	return w.ByExpert[expertID]
 }
 
 func buildPool(dists []ScaledBeta, weights []float64, experts []int64) (*RecordPool, error) {

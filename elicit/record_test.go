@@ -416,3 +416,25 @@ func FuzzParseRecord(f *testing.F) {
 		}
 	})
 }
+
+// The weight rule the pool, the export and the weight forms share.
+func TestWeightsOf(t *testing.T) {
+	custom := Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 3, 2: 0.5}}
+	for _, tc := range []struct {
+		w    Weights
+		id   int64
+		want float64
+	}{
+		{Weights{}, 7, 1},                     // never set: equal
+		{Weights{Scheme: WeightsEqual}, 7, 1}, // equal ignores any stored map
+		{Weights{Scheme: WeightsEqual, ByExpert: map[int64]float64{7: 9}}, 7, 1},
+		{custom, 1, 3},
+		{custom, 2, 0.5},
+		{custom, 3, 0}, // an expert the weights do not name is out of the pool
+		{Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{4: 0.2}}, 4, 0.2},
+	} {
+		if got := tc.w.Of(tc.id); got != tc.want {
+			t.Errorf("%+v.Of(%d) = %v, want %v", tc.w, tc.id, got, tc.want)
+		}
+	}
+}

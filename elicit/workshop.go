@@ -143,6 +143,16 @@ type Weights struct {
 	At         time.Time         `json:"at"`
 }
 
+// Of is the unnormalised pool weight of an expert: 1 under equal weights
+// (or when none were ever set), otherwise the stored weight, 0 for an
+// expert the weights do not name. It is the one place this rule lives.
+func (w Weights) Of(expertID int64) float64 {
+	if w.Scheme == WeightsEqual || w.Scheme == "" {
+		return 1
+	}
+	return w.ByExpert[expertID]
+}
+
 // PriorSource says how an agreed prior was reached.
 type PriorSource string
 

@@ -192,11 +192,7 @@ func freshWeightsForm(wt elicit.Weights, experts []elicit.Expert, alpha string) 
 	f.Values.Set("scheme", string(wt.Scheme))
 	f.Values.Set("alpha", alpha)
 	for _, e := range experts {
-		x := 1.0
-		if wt.Scheme != elicit.WeightsEqual {
-			x = wt.ByExpert[e.ID]
-		}
-		f.Values.Set(weightField(e.ID), strconv.FormatFloat(x, 'g', -1, 64))
+		f.Values.Set(weightField(e.ID), strconv.FormatFloat(wt.Of(e.ID), 'g', -1, 64))
 	}
 	return f
 }

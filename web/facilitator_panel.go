@@ -113,10 +113,7 @@ func (d workshopData) state(q elicit.Question) questionState {
 		}
 		if row.Fit != nil && !e.Revoked {
 			row.Pooled = true
-			row.Weight = 1
-			if d.Weights.Scheme != elicit.WeightsEqual {
-				row.Weight = d.Weights.ByExpert[e.ID]
-			}
+			row.Weight = d.Weights.Of(e.ID)
 			dists = append(dists, row.Fit.Dist)
 			weights = append(weights, row.Weight)
 		}
@@ -229,11 +226,7 @@ func (s *Server) showPanel(w http.ResponseWriter, r *http.Request, status int, w
 	if wf == nil {
 		wf = newForm(nil)
 		for _, row := range st.Rows {
-			wt := 1.0
-			if st.Weights.Scheme != elicit.WeightsEqual {
-				wt = st.Weights.ByExpert[row.Expert.ID]
-			}
-			wf.Values.Set(weightField(row.Expert.ID), strconv.FormatFloat(wt, 'g', -1, 64))
+			wf.Values.Set(weightField(row.Expert.ID), strconv.FormatFloat(st.Weights.Of(row.Expert.ID), 'g', -1, 64))
 		}
 	}
 	if af == nil {
