@@ -1,5 +1,7 @@
 package elicit
 
+import "sort"
+
 // RuleRoundSequence is the rule for Delphi rounds: the open round is
 // closed before the next one, numbered one higher, is opened.
 const RuleRoundSequence Rule = "rounds run in sequence: close the open round, then open the next"
@@ -19,4 +21,39 @@ func (w Workshop) CheckRoundChange(round int, open bool) error {
 		return inputErr("round", RuleRoundSequence, "the open round is %d, not %d", w.Round, round)
 	}
 	return nil
+}
+
+// FeedbackRound is the round whose judgements are fed back to the panel
+// during w's current round, or 0 when there is none (round 1). Delphi
+// feedback is controlled: through round r every expert sees the panel as
+// it stood when round r−1 closed, the same for all and fixed for the
+// whole round, so no expert's view depends on who happened to revise
+// first within the round.
+func (w Workshop) FeedbackRound() int {
+	if w.Round < 2 {
+		return 0
+	}
+	return w.Round - 1
+}
+
+// LatestThrough picks, from revisions of one question, each expert's
+// latest revision saved in round `through` or before, in order of
+// revision id. Revisions are append-only, so the latest is the one with
+// the highest id.
+func LatestThrough(revs []Revision, through int) []Revision {
+	latest := map[int64]Revision{}
+	for _, r := range revs {
+		if r.Round > through {
+			continue
+		}
+		if cur, ok := latest[r.ExpertID]; !ok || r.ID > cur.ID {
+			latest[r.ExpertID] = r
+		}
+	}
+	out := make([]Revision, 0, len(latest))
+	for _, r := range latest {
+		out = append(out, r)
+	}
+	sort.Slice(out, func(i, j int) bool { return out[i].ID < out[j].ID })
+	return out
 }

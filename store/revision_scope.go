@@ -31,13 +31,14 @@ func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID 
 }
 
 // LatestRevisions returns each expert's latest revision of one question
-// (the one with the highest id, revisions being append-only), ordered by
-// revision id.
-func (db *DB) LatestRevisions(ctx context.Context, questionID int64) ([]elicit.Revision, error) {
+// saved in round `through` or before (the one with the highest id,
+// revisions being append-only), ordered by revision id: what
+// elicit.LatestThrough picks from all the question's revisions.
+func (db *DB) LatestRevisions(ctx context.Context, questionID int64, through int) ([]elicit.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r
-		 WHERE r.id IN (SELECT MAX(id) FROM revisions WHERE question_id = ? GROUP BY expert_id)
-		 ORDER BY r.id`, questionID))
+		 WHERE r.id IN (SELECT MAX(id) FROM revisions WHERE question_id = ? AND round <= ? GROUP BY expert_id)
+		 ORDER BY r.id`, questionID, through))
 }
 
 // scanRevisions reads rows of revisionColumns.

@@ -63,7 +63,7 @@ func TestScopedRevisionReads(t *testing.T) {
 		t.Errorf("QuestionExpertRevisions = %+v, want %+v", got, want)
 	}
 
-	got, err = db.LatestRevisions(ctx, q0)
+	got, err = db.LatestRevisions(ctx, q0, 1)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -81,8 +81,37 @@ func TestScopedRevisionReads(t *testing.T) {
 		t.Errorf("LatestRevisions did not pick the revisions saved last: %+v", got)
 	}
 
-	none, err := db.LatestRevisions(ctx, a.qs[1].ID+1000)
+	none, err := db.LatestRevisions(ctx, a.qs[1].ID+1000, 1)
 	if err != nil || len(none) != 0 {
 		t.Errorf("LatestRevisions of an unknown question = %v, %v; want none", none, err)
+	}
+
+	// Round 2: Ada revises question 0 again. Read through round 1, the
+	// panel stays as round 1 closed; through round 2 it has her revision.
+	// Both reads equal elicit.LatestThrough over the question's revisions.
+	if err := db.SetRound(ctx, a.w.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.SetRound(ctx, a.w.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	save(a, 0, 0, 0.28)
+	if all, err = db.Revisions(ctx, a.w.ID); err != nil {
+		t.Fatal(err)
+	}
+	ofQ0 := filter(func(r elicit.Revision) bool { return r.QuestionID == q0 })
+	for through, adaMedian := range map[int]float64{1: 0.32, 2: 0.28} {
+		got, err := db.LatestRevisions(ctx, q0, through)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := elicit.LatestThrough(ofQ0, through); len(want) != 3 || !reflect.DeepEqual(got, want) {
+			t.Errorf("LatestRevisions through round %d = %+v, want %+v", through, got, want)
+		}
+		for _, r := range got {
+			if r.ExpertID == ada && r.Answer.Values[1] != adaMedian {
+				t.Errorf("through round %d Ada's median is %v, want %v", through, r.Answer.Values[1], adaMedian)
+			}
+		}
 	}
 }

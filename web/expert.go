@@ -17,6 +17,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/internal/memo"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -64,6 +65,8 @@ type expertQuestionView struct {
 	History  []historyRow
 	Panel    *chart.PanelView
 	Spread   *chart.SpreadView // instead of Panel when the panel is large
+	// FeedbackRound is the round whose close the panel shows.
+	FeedbackRound int
 }
 
 type expertQuestionInfo struct {
@@ -595,7 +598,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	for i := len(sc.own) - 1; i >= 0; i-- {
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
-	if sc.workshop.Round >= 2 {
+	if v.FeedbackRound = sc.workshop.FeedbackRound(); v.FeedbackRound > 0 {
 		v.Panel, v.Spread = s.anonymousPanel(r, sc)
 	}
 	return v
@@ -695,16 +698,86 @@ func problemSummary(af answerForm, f *Form) string {
 	return "No fit yet: check the marked fields."
 }
 
-// anonymousPanel draws, from round 2, the other experts' current fitted
-// curves without names, in an order fixed by a hash of the question and
-// the expert (not by name, id or time of answer), beside the asking
-// expert's own current curve and the equal-weight pool of everyone's.
-// Beyond overlayLimit other experts it returns a spread instead: the own
-// curve and the pool, with each other expert as one interval.
+// anonymousPanel draws, from round 2, the panel as it stood when the
+// previous round closed (elicit's FeedbackRound): the other experts'
+// fitted curves without names, in an order fixed by a hash of the
+// question and the expert (not by name, id or time of answer), beside
+// the asking expert's own current curve and the equal-weight pool of the
+// whole panel at that close. Beyond overlayLimit other experts it
+// returns a spread instead: the own curve and the pool, with each other
+// expert as one interval.
 func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView) {
+	fb, err := s.feedbackFor(r, sc)
+	if err != nil || fb == nil {
+		return nil, nil
+	}
+	q := sc.question
+	var own *elicit.ScaledBeta
+	if n := len(sc.own); n > 0 {
+		if fit, err := fits.fit(q, sc.own[n-1]); err == nil {
+			d := fit.Dist
+			own = &d
+		}
+	}
+	var others []elicit.ScaledBeta
+	for _, m := range fb.members {
+		if m.expertID != sc.expert.ID {
+			others = append(others, m.dist)
+		}
+	}
+	if len(others) == 0 {
+		return nil, nil
+	}
+	var curves []chart.Curve
+	if own != nil {
+		curves = append(curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
+	}
+	id := "panel-q" + strconv.FormatInt(q.ID, 10)
+	if len(others) > overlayLimit {
+		if fb.poolErr == nil {
+			curves = append(curves, poolCurve(fb.pool))
+		}
+		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: others}
+	}
+	for i, d := range others {
+		curves = append(curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: d})
+	}
+	if fb.poolErr == nil {
+		curves = append(curves, poolCurve(fb.pool))
+	}
+	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil
+}
+
+// feedback is what every expert's page of a question shares through a
+// round: the fits of the panel's active experts as the previous round
+// closed, in the panel's order, and their equal-weight pool.
+type feedback struct {
+	members []feedbackMember
+	pool    elicit.Pool
+	poolErr error
+}
+
+type feedbackMember struct {
+	expertID int64
+	dist     elicit.ScaledBeta
+}
+
+// feedbacks remembers each question's feedback, keyed by the SHA-256 of
+// the fit keys of the revisions it is built from: a closed round's
+// revisions never change, so within a round the key changes only when
+// the facilitator revokes an expert.
+var feedbacks = memo.New[[sha256.Size]byte, *feedback](256)
+
+// feedbackFor reads the panel fed back on sc's question in sc's round, or
+// nil when there is none yet.
+func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error) {
+	through := sc.workshop.FeedbackRound()
+	if through == 0 {
+		return nil, nil
+	}
 	experts, err := s.store.Experts(r.Context(), sc.workshop.ID)
 	if err != nil {
-		return nil, nil
+		return nil, err
 	}
 	active := map[int64]bool{}
 	for _, e := range experts {
@@ -712,68 +785,59 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 			active[e.ID] = true
 		}
 	}
-	revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID)
+	revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID, through)
 	if err != nil {
-		return nil, nil
+		return nil, err
 	}
-	latest := map[int64]elicit.Revision{}
+	var kept []elicit.Revision
+	h := sha256.New()
 	for _, rv := range revs {
 		if active[rv.ExpertID] {
-			latest[rv.ExpertID] = rv
+			kept = append(kept, rv)
+			h.Write([]byte(fitKey(sc.question, rv)))
 		}
 	}
-	type other struct {
-		key  string
-		dist elicit.ScaledBeta
+	if len(kept) == 0 {
+		return nil, nil
 	}
-	var others []other
-	var own *elicit.ScaledBeta
-	var pooled []elicit.ScaledBeta
-	q := sc.question
-	for id, rv := range latest {
+	var key [sha256.Size]byte
+	h.Sum(key[:0])
+	return feedbacks.Get(key, func() *feedback { return newFeedback(sc.question, kept) }), nil
+}
+
+// newFeedback fits the revisions (through the fit cache), orders the
+// experts by a hash of question and expert, and pools them with equal
+// weights. Revisions that cannot be fitted are left out.
+func newFeedback(q elicit.Question, revs []elicit.Revision) *feedback {
+	type keyed struct {
+		key string
+		m   feedbackMember
+	}
+	var ks []keyed
+	var dists []elicit.ScaledBeta
+	for _, rv := range revs {
 		fit, err := fits.fit(q, rv)
 		if err != nil {
 			continue
 		}
-		pooled = append(pooled, fit.Dist)
-		if id == sc.expert.ID {
-			d := fit.Dist
-			own = &d
-			continue
-		}
-		sum := sha256.Sum256([]byte(fmt.Sprintf("parley panel order %d %d", q.ID, id)))
-		others = append(others, other{key: hex.EncodeToString(sum[:]), dist: fit.Dist})
+		dists = append(dists, fit.Dist)
+		sum := sha256.Sum256([]byte(fmt.Sprintf("parley panel order %d %d", q.ID, rv.ExpertID)))
+		ks = append(ks, keyed{hex.EncodeToString(sum[:]), feedbackMember{rv.ExpertID, fit.Dist}})
 	}
-	if len(others) == 0 {
-		return nil, nil
+	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
+	fb := &feedback{}
+	for _, k := range ks {
+		fb.members = append(fb.members, k.m)
 	}
-	sort.Slice(others, func(i, j int) bool { return others[i].key < others[j].key })
-	pool, poolErr := elicit.LinearPool(pooled, nil)
-	if len(others) > overlayLimit {
-		sp := &chart.SpreadView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
-		if own != nil {
-			sp.Curves = append(sp.Curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
-		}
-		if poolErr == nil {
-			sp.Curves = append(sp.Curves, poolCurve(pool))
-		}
-		for _, o := range others {
-			sp.Others = append(sp.Others, o.dist)
-		}
-		return nil, sp
+	if len(dists) == 0 {
+		fb.poolErr = errNoFits
+		return fb
 	}
-	v := &chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
-	if own != nil {
-		v.Curves = append(v.Curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
-	}
-	for i, o := range others {
-		v.Curves = append(v.Curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: o.dist})
-	}
-	if poolErr == nil {
-		v.Curves = append(v.Curves, poolCurve(pool))
-	}
-	return v, nil
+	fb.pool, fb.poolErr = elicit.LinearPool(dists, nil)
+	return fb
 }
+
+var errNoFits = errors.New("no fitted judgement to pool")
 
 // overlayLimit is the most other experts whose curves are overlaid one by
 // one. Beyond a dozen, overlaid curves cannot be told apart anyway (the

@@ -134,15 +134,27 @@ func TestFitCacheConcurrent(t *testing.T) {
 	wg.Wait()
 }
 
-// Through the server: from round 2 an expert's page shows the other
-// experts' current fits, so when one of them revises, the next view of
-// the page carries the revised fit and not the one remembered before.
-func TestPanelShowsARevisionSavedAfterTheLastView(t *testing.T) {
-	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+// Through the server: from round 2 an expert's page shows the panel as
+// the previous round closed (controlled Delphi feedback). A revision
+// saved in round 2 changes the reviser's own curve at once but reaches
+// the others only when round 2 has closed and round 3 opened; a revoked
+// expert leaves the panel at once, though the panel is remembered.
+func TestPanelShowsTheRoundAsItClosed(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	ctx := context.Background()
 	save := func(i int, vals ...string) {
 		t.Helper()
 		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(vals...)); resp.StatusCode != http.StatusSeeOther {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	next := func(round int) {
+		t.Helper()
+		if err := g.db.SetRound(ctx, g.ws.ID, round-1, false, "discussion"); err != nil {
+			t.Fatal(err)
+		}
+		if err := g.db.SetRound(ctx, g.ws.ID, round, true, "next round"); err != nil {
+			t.Fatal(err)
 		}
 	}
 	params := func(vals ...float64) string {
@@ -153,32 +165,48 @@ func TestPanelShowsARevisionSavedAfterTheLastView(t *testing.T) {
 		}
 		return "Beta(" + chart.FormatValue(fit.Dist.Alpha) + ", " + chart.FormatValue(fit.Dist.Beta.Beta) + ")"
 	}
+	panelOf := func(i int) string {
+		t.Helper()
+		_, page := g.get(g.qpath(i, g.q))
+		start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")
+		if start < 0 || end < start {
+			t.Fatalf("expert %d: no panel before the history", i)
+		}
+		return page[start:end]
+	}
 	save(0, "0.05", "0.2", "0.4")
 	save(1, "0.02", "0.08", "0.2")
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
-	before, after := params(0.02, 0.08, 0.2), params(0.3, 0.55, 0.8)
-	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, before) {
-		t.Fatalf("round 2 page lacks the other expert's %s", before)
+	save(2, "0.1", "0.3", "0.5")
+	next(2)
+	bruno1, bruno2, chiara := params(0.02, 0.08, 0.2), params(0.3, 0.55, 0.8), params(0.1, 0.3, 0.5)
+	if p := panelOf(0); !strings.Contains(p, bruno1) || !strings.Contains(p, "as they stood when round 1 closed") {
+		t.Fatalf("round 2 panel lacks Bruno's round-1 %s or does not say which round it shows", bruno1)
 	}
 	save(1, "0.3", "0.55", "0.8")
-	_, page := g.get(g.qpath(0, g.q))
-	if !strings.Contains(page, after) {
-		t.Errorf("after the revision the panel lacks the revised %s", after)
+	if p := panelOf(0); !strings.Contains(p, bruno1) || strings.Contains(p, bruno2) {
+		t.Errorf("in round 2 Ada's panel should still show Bruno's round-1 %s, not his round-2 %s", bruno1, bruno2)
 	}
-	if strings.Contains(page, before) {
-		t.Errorf("after the revision the panel still shows the superseded %s", before)
+	if p := panelOf(1); !strings.Contains(p, bruno2) {
+		t.Errorf("Bruno's own panel does not draw his revised curve %s as his own", bruno2)
 	}
-	// The reviser's own page shows their new fit in the preview and both
-	// in their history.
-	_, own := g.get(g.qpath(1, g.q))
-	if !strings.Contains(own, params2(t, g.q, 0.3, 0.55, 0.8)) {
-		t.Errorf("the reviser's page does not preview the revised fit %s", params2(t, g.q, 0.3, 0.55, 0.8))
+	next(3)
+	if p := panelOf(0); !strings.Contains(p, bruno2) || strings.Contains(p, bruno1) || !strings.Contains(p, "round 2 closed") {
+		t.Errorf("in round 3 Ada's panel should show Bruno's round-2 %s and not his round-1 %s", bruno2, bruno1)
+	}
+	// Chiara did not revise in round 2: her round-1 judgement stands.
+	if p := panelOf(0); !strings.Contains(p, chiara) {
+		t.Errorf("round 3 panel lacks Chiara's standing %s", chiara)
+	}
+	if err := g.db.RevokeExpert(ctx, g.experts[1].ID, "left the panel"); err != nil {
+		t.Fatal(err)
+	}
+	if p := panelOf(0); strings.Contains(p, bruno2) || !strings.Contains(p, chiara) {
+		t.Errorf("after Bruno's revocation Ada's panel should drop his %s and keep Chiara's %s", bruno2, chiara)
+	}
+	// Chiara's own page previews her standing fit.
+	_, own := g.get(g.qpath(2, g.q))
+	if !strings.Contains(own, params2(t, g.q, 0.1, 0.3, 0.5)) {
+		t.Errorf("Chiara's page does not preview her fit %s", params2(t, g.q, 0.1, 0.3, 0.5))
 	}
 }
 

@@ -44,10 +44,11 @@ type Store interface {
 	Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) // oldest first
 	// Narrower reads for the expert's pages, which are opened many times a
 	// round: one expert's revisions (all questions, or one), and each
-	// expert's latest revision of one question. All ordered by revision id.
+	// expert's latest revision of one question saved in round `through` or
+	// before (elicit.LatestThrough). All ordered by revision id.
 	ExpertRevisions(ctx context.Context, expertID int64) ([]elicit.Revision, error)
 	QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]elicit.Revision, error)
-	LatestRevisions(ctx context.Context, questionID int64) ([]elicit.Revision, error)
+	LatestRevisions(ctx context.Context, questionID int64, through int) ([]elicit.Revision, error)
 
 	// Facilitator decisions.
 	SetWeights(ctx context.Context, w *elicit.Weights) error                          // records EventWeightsSet

@@ -110,8 +110,11 @@ type curveSpan struct {
 // remembered. A mixture with Components leaves its top to be found from
 // its samples.
 func (c Curve) span(lower, upper float64) curveSpan {
-	if !c.usesFuncs() {
-		return spans.get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+	switch {
+	case !c.usesFuncs():
+		return spans.Get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+	case len(c.Components) > 0:
+		return mixSpans.Get(mixKey{fingerprint(c.Components), lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
 	}
 	return c.computeSpan(lower, upper)
 }
@@ -174,23 +177,29 @@ func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
 func (c Curve) sample(xs []float64, x0, x1 float64) sampled {
 	switch {
 	case !c.usesFuncs():
-		return samples.get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
+		return samples.Get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
 	case len(c.Components) > 0:
-		m := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
-		for _, comp := range c.Components {
-			part := Curve{Dist: comp.Dist}
-			if !part.valid() {
-				return evaluate(c, xs)
-			}
-			ps := part.sample(xs, x0, x1)
-			for k := range xs {
-				m.pdf[k] += comp.Weight * ps.pdf[k]
-				m.cdf[k] += comp.Weight * ps.cdf[k]
-			}
-		}
-		return m
+		return mixSamples.Get(mixKey{fingerprint(c.Components), x0, x1}, func() sampled { return c.sumComponents(xs, x0, x1) })
 	}
 	return evaluate(c, xs)
+}
+
+// sumComponents samples a mixture as the weighted sum of its components'
+// remembered samples.
+func (c Curve) sumComponents(xs []float64, x0, x1 float64) sampled {
+	m := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
+	for _, comp := range c.Components {
+		part := Curve{Dist: comp.Dist}
+		if !part.valid() {
+			return evaluate(c, xs)
+		}
+		ps := part.sample(xs, x0, x1)
+		for k := range xs {
+			m.pdf[k] += comp.Weight * ps.pdf[k]
+			m.cdf[k] += comp.Weight * ps.cdf[k]
+		}
+	}
+	return m
 }
 
 func evaluate(c Curve, xs []float64) sampled {

@@ -1,9 +1,12 @@
 package chart
 
 import (
-	"sync"
+	"crypto/sha256"
+	"encoding/binary"
+	"math"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/internal/memo"
 )
 
 // A Beta curve's tail points, percentiles, density top and samples depend
@@ -12,55 +15,6 @@ import (
 // between two views usually only one curve has changed and the window has
 // stayed put; so these are remembered, keyed by the exact values they are
 // computed from, and can never be stale.
-
-// memo is a bounded, concurrency-safe table of computed values. It keeps
-// two generations of at most half entries each: a hit in the older one
-// moves the entry to the newer, and when the newer fills it becomes the
-// older and the oldest is dropped.
-type memo[K comparable, V any] struct {
-	mu       sync.Mutex
-	half     int
-	cur, old map[K]V
-}
-
-func newMemo[K comparable, V any](size int) *memo[K, V] {
-	half := max(1, size/2)
-	return &memo[K, V]{half: half, cur: make(map[K]V, half), old: map[K]V{}}
-}
-
-// get returns the value for k, computing it outside the lock when absent.
-func (m *memo[K, V]) get(k K, compute func() V) V {
-	m.mu.Lock()
-	if v, ok := m.cur[k]; ok {
-		m.mu.Unlock()
-		return v
-	}
-	v, ok := m.old[k]
-	if !ok {
-		m.mu.Unlock()
-		v = compute()
-		m.mu.Lock()
-	}
-	if len(m.cur) >= m.half {
-		m.old, m.cur = m.cur, make(map[K]V, m.half)
-	}
-	m.cur[k] = v
-	m.mu.Unlock()
-	return v
-}
-
-// reset forgets every value.
-func (m *memo[K, V]) reset() {
-	m.mu.Lock()
-	m.cur, m.old = make(map[K]V, m.half), map[K]V{}
-	m.mu.Unlock()
-}
-
-func (m *memo[K, V]) len() int {
-	m.mu.Lock()
-	defer m.mu.Unlock()
-	return len(m.cur) + len(m.old)
-}
 
 // spanKey is a Beta curve on a question's bounds.
 type spanKey struct {
@@ -95,10 +49,36 @@ type paths struct {
 	clipped              bool
 }
 
+// mixKey is a mixture with Components, by the fingerprint of its
+// components, over a window: [a, b] is the question's bounds for its
+// span and the drawn window for its samples. A mixture's PDF, CDF and
+// quantiles are functions of its components (Curve's contract), so the
+// fingerprint stands for the whole curve.
+type mixKey struct {
+	components [sha256.Size]byte
+	a, b       float64
+}
+
+// fingerprint is the SHA-256 of the components' weights and parameters:
+// two mixtures share it only when every component is exactly the same.
+func fingerprint(cs []elicit.Component) [sha256.Size]byte {
+	b := make([]byte, 0, len(cs)*5*8)
+	for _, c := range cs {
+		for _, v := range [...]float64{c.Weight, c.Dist.Alpha, c.Dist.Beta.Beta, c.Dist.Lower, c.Dist.Upper} {
+			b = binary.LittleEndian.AppendUint64(b, math.Float64bits(v))
+		}
+	}
+	return sha256.Sum256(b)
+}
+
 // Sizes: a workshop of 200 experts and 10 questions has 2000 current
 // curves; a sampled curve is about 5 kB.
 var (
-	spans   = newMemo[spanKey, curveSpan](8192)
-	samples = newMemo[gridKey, sampled](4096)
-	drawn   = newMemo[pathKey, paths](4096) // about 9 kB each
+	spans   = memo.New[spanKey, curveSpan](8192)
+	samples = memo.New[gridKey, sampled](4096)
+	drawn   = memo.New[pathKey, paths](4096) // about 9 kB each
+	// A pool is drawn on every round-2 page of its question; a workshop
+	// has a pool per question, and a few windows each.
+	mixSpans   = memo.New[mixKey, curveSpan](256)
+	mixSamples = memo.New[mixKey, sampled](256)
 )

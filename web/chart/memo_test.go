@@ -7,7 +7,6 @@ import (
 	"reflect"
 	"strconv"
 	"strings"
-	"sync"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -97,9 +96,11 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	b := append([]elicit.ScaledBeta(nil), a...)
 	b[1] = sbeta(3.5, 5, 0, 1) // one expert revises; the window barely moves
 	changed := newPanelModel(panelOf(t, true, b...))
-	spans.reset()
-	samples.reset()
-	drawn.reset()
+	spans.Reset()
+	samples.Reset()
+	drawn.Reset()
+	mixSpans.Reset()
+	mixSamples.Reset()
 	fresh := newPanelModel(panelOf(t, true, b...))
 	if !reflect.DeepEqual(changed, fresh) {
 		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
@@ -107,41 +108,13 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	if changed.Twin.Lines[1].Cumul == first.Twin.Lines[1].Cumul {
 		t.Error("the revised expert's curve is the one drawn before the revision")
 	}
-}
-
-func TestMemoBoundedAndConcurrent(t *testing.T) {
-	m := newMemo[int, int](8)
-	calls := 0
-	var mu sync.Mutex
-	sq := func(k int) func() int {
-		return func() int { mu.Lock(); calls++; mu.Unlock(); return k * k }
+	pool := len(b) // the pool is drawn after the experts
+	if changed.Twin.Lines[pool].Cumul == first.Twin.Lines[pool].Cumul || changed.Twin.Lines[pool].Density == first.Twin.Lines[pool].Density {
+		t.Error("the pool of the revised panel is the pool remembered from before the revision")
 	}
-	for k := range 50 {
-		if got := m.get(k, sq(k)); got != k*k {
-			t.Fatalf("get(%d) = %d", k, got)
-		}
-		if m.len() > 8 {
-			t.Fatalf("memo of size 8 holds %d", m.len())
-		}
+	if mixSpans.Len() == 0 || mixSamples.Len() == 0 {
+		t.Error("the pool's span and samples were not remembered")
 	}
-	if m.get(49, sq(49)) != 49*49 || calls != 50 {
-		t.Errorf("%d computations for 50 keys and one repeat, want 50", calls)
-	}
-	var wg sync.WaitGroup
-	for g := range 8 {
-		wg.Add(1)
-		go func() {
-			defer wg.Done()
-			for i := range 200 {
-				k := (i + g) % 13
-				if got := m.get(k, sq(k)); got != k*k {
-					t.Errorf("get(%d) = %d", k, got)
-					return
-				}
-			}
-		}()
-	}
-	wg.Wait()
 }
 
 // appendCoord's integer path writes what the general float formatting of

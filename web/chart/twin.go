@@ -153,7 +153,7 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		if c.usesFuncs() {
 			p = draw()
 		} else {
-			p = drawn.get(pathKey{c.Dist, x0, x1, top, area}, draw)
+			p = drawn.Get(pathKey{c.Dist, x0, x1, top, area}, draw)
 		}
 		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: p.density, Cumul: p.cumul, Area: p.area,
 			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
