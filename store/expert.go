@@ -76,6 +76,26 @@ func readExperts(ctx context.Context, db querier, workshopID int64) ([]elicit.Ex
 	return es, rows.Err()
 }
 
+// RevokedExperts returns the ids of a workshop's experts whose access is
+// revoked, in order: usually none, so reading them is cheap enough for
+// every page that leaves revoked experts out.
+func (db *DB) RevokedExperts(ctx context.Context, workshopID int64) ([]int64, error) {
+	rows, err := db.r.QueryContext(ctx, `SELECT id FROM experts WHERE workshop_id = ? AND revoked = 1 ORDER BY id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: revoked experts: %w", err)
+	}
+	defer rows.Close()
+	var ids []int64
+	for rows.Next() {
+		var id int64
+		if err := rows.Scan(&id); err != nil {
+			return nil, fmt.Errorf("store: revoked experts: %w", err)
+		}
+		ids = append(ids, id)
+	}
+	return ids, rows.Err()
+}
+
 // ExpertByToken returns the unrevoked expert whose token hashes to
 // tokenHash.
 func (db *DB) ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Expert, error) {

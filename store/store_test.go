@@ -248,6 +248,13 @@ func TestExpertTokens(t *testing.T) {
 	if got, _ := db.Expert(ctx, a.ID); !got.Revoked {
 		t.Fatalf("expert not marked revoked: %+v", got)
 	}
+	other := seed(t, db) // a second workshop's experts are never listed
+	if err := db.RevokeExpert(ctx, other.experts[1].ID, "left"); err != nil {
+		t.Fatal(err)
+	}
+	if ids, err := db.RevokedExperts(ctx, p.w.ID); err != nil || !reflect.DeepEqual(ids, []int64{a.ID}) {
+		t.Fatalf("RevokedExperts = %v, %v; want [%d]", ids, err, a.ID)
+	}
 	if err := db.ReissueToken(ctx, a.ID, []byte("new-hash"), "rejoined"); err != nil {
 		t.Fatal(err)
 	}
@@ -256,6 +263,9 @@ func TestExpertTokens(t *testing.T) {
 	}
 	if got, err := db.ExpertByToken(ctx, []byte("new-hash")); err != nil || got.ID != a.ID || got.Revoked {
 		t.Fatalf("new token: %+v, %v", got, err)
+	}
+	if ids, err := db.RevokedExperts(ctx, p.w.ID); err != nil || len(ids) != 0 {
+		t.Fatalf("RevokedExperts after the reissue = %v, %v; want none", ids, err)
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
 	var kinds []elicit.EventKind

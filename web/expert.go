@@ -17,7 +17,6 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
-	"github.com/parley-elicit/parley/internal/memo"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -762,47 +761,53 @@ type feedbackMember struct {
 	dist     elicit.ScaledBeta
 }
 
-// feedbacks remembers each question's feedback, keyed by the SHA-256 of
-// the fit keys of the revisions it is built from: a closed round's
-// revisions never change, so within a round the key changes only when
-// the facilitator revokes an expert.
-var feedbacks = memo.New[[sha256.Size]byte, *feedback](256)
+// feedbackKey names one question's feedback in a round: the round fed
+// back and the experts revoked when it was read. The revisions of a
+// closed round never change (saves go to the open round, and revisions
+// are append-only), so the feedback is read and pooled once per key; a
+// revocation, or a reissued token lifting one, gives a new key.
+type feedbackKey struct {
+	question int64
+	through  int
+	revoked  string
+}
 
-// feedbackFor reads the panel fed back on sc's question in sc's round, or
-// nil when there is none yet.
+// feedbackFor returns the panel fed back on sc's question in sc's round,
+// or nil when there is none yet.
 func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error) {
 	through := sc.workshop.FeedbackRound()
 	if through == 0 {
 		return nil, nil
 	}
-	experts, err := s.store.Experts(r.Context(), sc.workshop.ID)
+	revoked, err := s.store.RevokedExperts(r.Context(), sc.workshop.ID)
 	if err != nil {
 		return nil, err
 	}
-	active := map[int64]bool{}
-	for _, e := range experts {
-		if !e.Revoked {
-			active[e.ID] = true
+	key := feedbackKey{question: sc.question.ID, through: through, revoked: fmt.Sprint(revoked)}
+	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
+		revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID, through)
+		if err != nil {
+			return nil, err
 		}
-	}
-	revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID, through)
+		gone := map[int64]bool{}
+		for _, id := range revoked {
+			gone[id] = true
+		}
+		var kept []elicit.Revision
+		for _, rv := range revs {
+			if !gone[rv.ExpertID] {
+				kept = append(kept, rv)
+			}
+		}
+		return newFeedback(sc.question, kept), nil
+	})
 	if err != nil {
 		return nil, err
 	}
-	var kept []elicit.Revision
-	h := sha256.New()
-	for _, rv := range revs {
-		if active[rv.ExpertID] {
-			kept = append(kept, rv)
-			h.Write([]byte(fitKey(sc.question, rv)))
-		}
-	}
-	if len(kept) == 0 {
+	if len(fb.members) == 0 {
 		return nil, nil
 	}
-	var key [sha256.Size]byte
-	h.Sum(key[:0])
-	return feedbacks.Get(key, func() *feedback { return newFeedback(sc.question, kept) }), nil
+	return fb, nil
 }
 
 // newFeedback fits the revisions (through the fit cache), orders the

@@ -5,6 +5,8 @@
 package web
 
 import (
+	"github.com/parley-elicit/parley/internal/memo"
+
 	"bytes"
 	"context"
 	"errors"
@@ -40,6 +42,8 @@ type Server struct {
 	now     func() time.Time
 	log     *slog.Logger
 	handler http.Handler
+	// feedbacks remembers each question's round feedback (see feedbackFor).
+	feedbacks *memo.Memo[feedbackKey, *feedback]
 }
 
 // New returns a Server over st.
@@ -47,7 +51,7 @@ func New(st Store, opt Options) (*Server, error) {
 	if st == nil {
 		return nil, errors.New("web: New needs a Store")
 	}
-	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger}
+	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256)}
 	if s.now == nil {
 		s.now = time.Now
 	}

@@ -37,6 +37,7 @@ type Store interface {
 	ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Expert, error) // revoked experts are not found
 	ReissueToken(ctx context.Context, expertID int64, tokenHash []byte, reason string) error
 	RevokeExpert(ctx context.Context, expertID int64, reason string) error
+	RevokedExperts(ctx context.Context, workshopID int64) ([]int64, error) // ids, in order
 
 	// Revisions: append-only. SaveRevision fails with elicit.ErrRoundClosed when
 	// the workshop's round is not open; it sets ID, Round and At.

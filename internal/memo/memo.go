@@ -22,15 +22,25 @@ func New[K comparable, V any](size int) *Memo[K, V] {
 
 // Get returns the value for k, computing it outside the lock when absent.
 func (m *Memo[K, V]) Get(k K, compute func() V) V {
+	v, _ := m.GetErr(k, func() (V, error) { return compute(), nil })
+	return v
+}
+
+// GetErr is Get for a computation that can fail: an error is returned
+// and nothing is remembered, so the next call computes again.
+func (m *Memo[K, V]) GetErr(k K, compute func() (V, error)) (V, error) {
 	m.mu.Lock()
 	if v, ok := m.cur[k]; ok {
 		m.mu.Unlock()
-		return v
+		return v, nil
 	}
 	v, ok := m.old[k]
 	if !ok {
 		m.mu.Unlock()
-		v = compute()
+		var err error
+		if v, err = compute(); err != nil {
+			return v, err
+		}
 		m.mu.Lock()
 	}
 	if len(m.cur) >= m.half {
@@ -38,7 +48,7 @@ func (m *Memo[K, V]) Get(k K, compute func() V) V {
 	}
 	m.cur[k] = v
 	m.mu.Unlock()
-	return v
+	return v, nil
 }
 
 // Reset forgets every value.

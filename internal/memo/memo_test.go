@@ -1,6 +1,7 @@
 package memo
 
 import (
+	"errors"
 	"sync"
 	"testing"
 )
@@ -38,4 +39,24 @@ func TestMemoBoundedAndConcurrent(t *testing.T) {
 		}()
 	}
 	wg.Wait()
+}
+
+// A failed computation is not remembered: the next call computes again.
+func TestGetErrForgetsFailures(t *testing.T) {
+	m := New[string, int](4)
+	calls := 0
+	failing := func() (int, error) { calls++; return 0, errors.New("disk gone") }
+	if _, err := m.GetErr("k", failing); err == nil {
+		t.Fatal("GetErr hid the error")
+	}
+	v, err := m.GetErr("k", func() (int, error) { calls++; return 7, nil })
+	if err != nil || v != 7 || calls != 2 {
+		t.Errorf("after a failure GetErr = %d, %v with %d computations; want 7, nil, 2", v, err, calls)
+	}
+	if v, _ := m.GetErr("k", failing); v != 7 || calls != 2 {
+		t.Errorf("a remembered value was computed again (%d computations)", calls)
+	}
+	if m.Len() != 1 {
+		t.Errorf("memo holds %d values, want 1", m.Len())
+	}
 }
