@@ -212,6 +212,23 @@ func (d ScaledBeta) toUnit(x float64) float64 { return (x - d.Lower) / d.width()
 // PDF is the density at x on the quantity's scale.
 func (d ScaledBeta) PDF(x float64) float64 { return d.Beta.PDF(d.toUnit(x)) / d.width() }
 
+// Density returns the PDF as a function for evaluating at many points:
+// the log of the beta function, log B(α, β), is computed once (gonum's
+// Lbeta) instead of at every point, and inside (Lower, Upper) the density
+// is exp((α−1)·log u + (β−1)·log(1−u) − log B(α, β)) / (Upper − Lower) at
+// u = (x − Lower)/(Upper − Lower). At and beyond the bounds it is PDF.
+func (d ScaledBeta) Density() func(float64) float64 {
+	a, b, w := d.Alpha, d.Beta.Beta, d.width()
+	lnB := mathext.Lbeta(a, b)
+	return func(x float64) float64 {
+		u := d.toUnit(x)
+		if !(u > 0 && u < 1) {
+			return d.PDF(x)
+		}
+		return math.Exp((a-1)*math.Log(u)+(b-1)*math.Log1p(-u)-lnB) / w
+	}
+}
+
 // CDF is P(X ≤ x).
 func (d ScaledBeta) CDF(x float64) float64 { return d.Beta.CDF(d.toUnit(x)) }
 

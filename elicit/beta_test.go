@@ -85,7 +85,7 @@ func readReference(t *testing.T) []refRow {
 // must agree to 1e-9 relative; CDF values to 1e-9 relative, or 1e-15
 // absolute where R's value is below 1e-6.
 func TestBetaAgainstR(t *testing.T) {
-	var nq, np int
+	var nq, np, nd int
 	for _, r := range readReference(t) {
 		d, err := NewBeta(r.alpha, r.beta)
 		if err != nil {
@@ -98,6 +98,23 @@ func TestBetaAgainstR(t *testing.T) {
 			if rel := math.Abs(got-r.value) / r.value; !(rel <= 1e-9) {
 				t.Errorf("Beta(%g, %g).Quantile(%g) = %.17g, R qbeta %.17g (rel %.1e)", r.alpha, r.beta, r.arg, got, r.value, rel)
 			}
+		case "dbeta":
+			// R's dbeta against PDF (gonum's density) and Density (the
+			// same formula with log B(α, β) computed once), on [0, 1] and
+			// on [0, 4] (where x and u = x/4 are both exact), where the
+			// density is R's divided by 4.
+			nd++
+			scaled := ScaledBeta{Beta: d, Lower: 0, Upper: 4}
+			for name, got := range map[string]float64{
+				"PDF":            d.PDF(r.arg),
+				"Density":        Unit(d).Density()(r.arg),
+				"scaled Density": 4 * scaled.Density()(4*r.arg),
+			} {
+				diff := math.Abs(got - r.value)
+				if !(diff <= 1e-9*r.value || (r.value < 1e-290 && diff <= 1e-300)) {
+					t.Errorf("Beta(%g, %g) %s(%g) = %.17g, R dbeta %.17g (diff %.1e)", r.alpha, r.beta, name, r.arg, got, r.value, diff)
+				}
+			}
 		case "pbeta":
 			np++
 			got := d.CDF(r.arg)
@@ -107,8 +124,8 @@ func TestBetaAgainstR(t *testing.T) {
 			}
 		}
 	}
-	if nq < 500 || np < 500 {
-		t.Fatalf("reference table too small: %d qbeta, %d pbeta rows", nq, np)
+	if nq < 500 || np < 500 || nd < 500 {
+		t.Fatalf("reference table too small: %d qbeta, %d pbeta, %d dbeta rows", nq, np, nd)
 	}
 }
 

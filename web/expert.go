@@ -1,14 +1,12 @@
 package web
 
 import (
-	"bytes"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
 	"fmt"
 	"math"
 	"net/http"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -262,10 +260,11 @@ func describedBy(f formField) templ.Attributes {
 // every handler here acts for expertFrom(ctx) and no other. No expert or
 // revision id ever appears in these URLs.
 func (s *Server) expertRoutes(r chi.Router) {
-	r.Get("/", s.expertHomePage)
-	r.Get("/q/{qid}", s.expertQuestionPage)
-	r.Post("/q/{qid}/preview", s.expertPreviewPost)
-	r.Post("/q/{qid}/save", s.expertSavePost)
+	// Previews and saves go before pages when the server is busy (turns.go).
+	r.Get("/", s.inTurn(pagePriority, s.expertHomePage))
+	r.Get("/q/{qid}", s.inTurn(pagePriority, s.expertQuestionPage))
+	r.Post("/q/{qid}/preview", s.inTurn(interactivePriority, s.expertPreviewPost))
+	r.Post("/q/{qid}/save", s.inTurn(interactivePriority, s.expertSavePost))
 }
 
 func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }
@@ -349,65 +348,7 @@ func (s *Server) readOwn(r *http.Request, sc *expertScope) error {
 	return err
 }
 
-// pageDraws bounds how many question pages are drawn at once, to the
-// number of CPUs. From round 2 a page draws the whole panel, many times
-// the work of a live preview or a save; without a bound, a burst of page
-// loads shares the CPUs with the previews experts are typing into and
-// slows every one of them. Page loads beyond the bound wait their turn.
-var pageDraws = make(chan struct{}, max(1, runtime.GOMAXPROCS(0)))
-
-// withDrawTurn runs draw in a turn of pageDraws. The page is held in
-// memory and sent after the turn is given back, so a slow connection
-// never keeps others from drawing. Nothing is sent when the request is
-// cancelled while waiting.
-func withDrawTurn(w http.ResponseWriter, r *http.Request, draw func(http.ResponseWriter)) {
-	select {
-	case pageDraws <- struct{}{}:
-	case <-r.Context().Done():
-		return
-	}
-	held := &heldResponse{w: w}
-	func() {
-		defer func() { <-pageDraws }()
-		draw(held)
-	}()
-	held.send()
-}
-
-// heldResponse keeps a handler's status and body until send; headers go
-// straight to the real response's header map.
-type heldResponse struct {
-	w      http.ResponseWriter
-	status int
-	body   bytes.Buffer
-}
-
-func (h *heldResponse) Header() http.Header { return h.w.Header() }
-
-func (h *heldResponse) WriteHeader(status int) {
-	if h.status == 0 {
-		h.status = status
-	}
-}
-
-func (h *heldResponse) Write(b []byte) (int, error) {
-	h.WriteHeader(http.StatusOK)
-	return h.body.Write(b)
-}
-
-func (h *heldResponse) send() {
-	if h.status == 0 {
-		return
-	}
-	h.w.WriteHeader(h.status)
-	_, _ = h.body.WriteTo(h.w)
-}
-
 func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
-	withDrawTurn(w, r, func(w http.ResponseWriter) { s.drawQuestionPage(w, r) })
-}
-
-func (s *Server) drawQuestionPage(w http.ResponseWriter, r *http.Request) {
 	sc, err := s.loadExpertScope(r)
 	if err == nil {
 		err = s.readOwn(r, &sc)
@@ -498,16 +439,14 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 		s.render(w, r, status, expertPreview(p))
 		return
 	}
-	withDrawTurn(w, r, func(w http.ResponseWriter) {
-		if err := s.readOwn(r, &sc); err != nil {
-			s.fail(w, r, err)
-			return
-		}
-		v := s.questionView(r, sc, formValues(f), f.Value("reason"))
-		applyErrors(&v.Form, f)
-		v.Preview = p
-		s.renderQuestion(w, r, status, sc, v)
-	})
+	if err := s.readOwn(r, &sc); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
+	applyErrors(&v.Form, f)
+	v.Preview = p
+	s.renderQuestion(w, r, status, sc, v)
 }
 
 func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
@@ -525,23 +464,21 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.
 	again := func(status int, closed string, fit *elicit.Fit) {
-		withDrawTurn(w, r, func(w http.ResponseWriter) {
-			if err := s.readOwn(r, &sc); err != nil {
-				s.fail(w, r, err)
-				return
-			}
-			v := s.questionView(r, sc, formValues(f), f.Value("reason"))
-			applyErrors(&v.Form, f)
-			if fit == nil {
-				v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
-			} else {
-				v.Preview = newPreview(sc.question, *fit)
-			}
-			if closed != "" {
-				v.Open, v.Closed = false, closed
-			}
-			s.renderQuestion(w, r, status, sc, v)
-		})
+		if err := s.readOwn(r, &sc); err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		v := s.questionView(r, sc, formValues(f), f.Value("reason"))
+		applyErrors(&v.Form, f)
+		if fit == nil {
+			v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
+		} else {
+			v.Preview = newPreview(sc.question, *fit)
+		}
+		if closed != "" {
+			v.Open, v.Closed = false, closed
+		}
+		s.renderQuestion(w, r, status, sc, v)
 	}
 	if !ok || !f.OK() {
 		again(http.StatusUnprocessableEntity, "", nil)
@@ -553,7 +490,13 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
-	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
+	// The write waits on the disk, not on a CPU: previews go on meanwhile.
+	stepAway(r)
+	err = s.store.SaveRevision(r.Context(), &rev)
+	if err != nil {
+		if !stepBack(r) {
+			return
+		}
 		if errors.Is(err, elicit.ErrRoundClosed) {
 			again(http.StatusConflict, closed, &fit)
 			return

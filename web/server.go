@@ -6,6 +6,8 @@ package web
 
 import (
 	"github.com/parley-elicit/parley/internal/memo"
+	"runtime"
+	"sync"
 
 	"bytes"
 	"context"
@@ -44,6 +46,9 @@ type Server struct {
 	handler http.Handler
 	// feedbacks remembers each question's round feedback (see feedbackFor).
 	feedbacks *memo.Memo[feedbackKey, *feedback]
+	// turns bounds the expert handlers running at once to the CPUs and
+	// puts previews and saves before pages (turns.go).
+	turns *turns
 }
 
 // New returns a Server over st.
@@ -51,7 +56,8 @@ func New(st Store, opt Options) (*Server, error) {
 	if st == nil {
 		return nil, errors.New("web: New needs a Store")
 	}
-	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256)}
+	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
+		turns: newTurns(runtime.GOMAXPROCS(0))}
 	if s.now == nil {
 		s.now = time.Now
 	}
@@ -75,8 +81,18 @@ func (s *Server) link(path string) string { return s.opt.BaseURL + path }
 // into a buffer first so a failing component yields a clean 500 and never
 // half a page.
 func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, c templ.Component) {
-	var buf bytes.Buffer
-	if err := c.Render(r.Context(), &buf); err != nil {
+	// A held response (turns.go) is drawn straight into its own buffer.
+	buf, held := (*bytes.Buffer)(nil), false
+	if h, ok := w.(*heldResponse); ok && h.status == 0 && h.body.Len() == 0 {
+		buf, held = h.body, true
+	} else {
+		buf = getBuffer()
+		defer putBuffer(buf)
+	}
+	if err := c.Render(r.Context(), buf); err != nil {
+		if held {
+			buf.Reset()
+		}
 		s.log.ErrorContext(r.Context(), "render", "path", r.URL.Path, "err", err)
 		w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 		w.WriteHeader(http.StatusInternalServerError)
@@ -85,7 +101,25 @@ func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, c te
 	}
 	w.Header().Set("Content-Type", "text/html; charset=utf-8")
 	w.WriteHeader(status)
-	_, _ = buf.WriteTo(w)
+	if !held {
+		_, _ = buf.WriteTo(w)
+	}
+}
+
+// buffers are reused for drawing pages and holding responses: a round-2
+// question page is some 90 kB, and drawing each into a fresh buffer grown
+// from nothing made most of the server's garbage.
+var buffers = sync.Pool{New: func() any { return new(bytes.Buffer) }}
+
+func getBuffer() *bytes.Buffer { return buffers.Get().(*bytes.Buffer) }
+
+// putBuffer returns b to the pool, unless it has grown unusually large.
+func putBuffer(b *bytes.Buffer) {
+	if b.Cap() > 1<<20 {
+		return
+	}
+	b.Reset()
+	buffers.Put(b)
 }
 
 // renderPage wraps body in the page shell described by m.

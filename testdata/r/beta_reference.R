@@ -6,11 +6,11 @@
 # Run from the repository root:   Rscript testdata/r/beta_reference.R
 #
 # Columns (one table, rows told apart by "kind"):
-#   kind    pbeta | qbeta | fit
+#   kind    pbeta | qbeta | dbeta | fit
 #   name    judgement name (fit rows only)
 #   alpha, beta  shape parameters (for fit rows: R's least-squares solution)
-#   arg     x for pbeta, p for qbeta
-#   value   pbeta(x, alpha, beta) or qbeta(p, alpha, beta); for fit rows the
+#   arg     x for pbeta and dbeta, p for qbeta
+#   value   pbeta(x, alpha, beta), dbeta(x, alpha, beta) or qbeta(p, alpha, beta); for fit rows the
 #           least-squares objective sum((pbeta(u_i) - p_i)^2) at R's solution
 #   probs, values  the judgement, ";"-separated (fit rows only)
 #   lower, upper   the judgement's bounds (fit rows only)
@@ -41,7 +41,10 @@ for (a in shapes) for (b in shapes) {
   # the x value itself is exactly representable in the CSV).
   bulk <- signif(qbeta(c(0.01, 0.3, 0.5, 0.7, 0.99), a, b), 6)
   for (x in unique(c(xs, bulk))) {
-    if (x > 0 && x < 1) add("pbeta", "", a, b, f(x), pbeta(x, a, b))
+    if (x > 0 && x < 1) {
+      add("pbeta", "", a, b, f(x), pbeta(x, a, b))
+      add("dbeta", "", a, b, f(x), dbeta(x, a, b))
+    }
   }
 }
 

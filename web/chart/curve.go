@@ -138,8 +138,9 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 	own := frame{X0: s.ownX0, X1: s.ownX1}
 	cxs := own.grid(gridPoints)
 	ys := make([]float64, len(cxs))
+	pdf := c.pdfFunc()
 	for k, x := range cxs {
-		ys[k] = c.pdf(x)
+		ys[k] = pdf(x)
 	}
 	s.top, _ = densityCap(ys)
 	s.topKnown = true
@@ -204,10 +205,20 @@ func (c Curve) sumComponents(xs []float64, x0, x1 float64) sampled {
 
 func evaluate(c Curve, xs []float64) sampled {
 	s := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
+	pdf := c.pdfFunc()
 	for k, x := range xs {
-		s.pdf[k], s.cdf[k] = c.pdf(x), c.cdf(x)
+		s.pdf[k], s.cdf[k] = pdf(x), c.cdf(x)
 	}
 	return s
+}
+
+// pdfFunc is the curve's density for evaluating at many points: a Beta's
+// with its normalising constant computed once.
+func (c Curve) pdfFunc() func(float64) float64 {
+	if c.usesFuncs() {
+		return c.PDF
+	}
+	return c.Dist.Density()
 }
 
 // window chooses the x range to draw: from the lowest 0.1% point to the
