@@ -149,3 +149,91 @@ func TestCancelledWaitRunsNothing(t *testing.T) {
 		t.Errorf("%d turns free, want 1", s.turns.free)
 	}
 }
+
+// acquireAsync asks for a turn in the background; the function it returns
+// reports whether the turn was given within d.
+func acquireAsync(tr *turns, p priority) (started func(time.Duration) bool) {
+	done := make(chan struct{})
+	go func() {
+		tr.acquire(httptest.NewRequest(http.MethodGet, "/", nil), p)
+		close(done)
+	}()
+	return func(d time.Duration) bool {
+		select {
+		case <-done:
+			return true
+		case <-time.After(d):
+			return false
+		}
+	}
+}
+
+// With two turns, one page runs at a time and the other turn stays for
+// previews and saves; no page starts while a preview runs or a save is
+// away at the database.
+func TestTurnsKeepRoomForPreviews(t *testing.T) {
+	tr := newTurns(2)
+	req := httptest.NewRequest(http.MethodGet, "/", nil)
+	if !tr.acquire(req, pagePriority) {
+		t.Fatal("no turn for the first page")
+	}
+	second := acquireAsync(tr, pagePriority)
+	if second(20 * time.Millisecond) {
+		t.Fatal("a second page started beside the first on two turns")
+	}
+	if !acquireAsync(tr, interactivePriority)(time.Second) {
+		t.Fatal("a preview did not get the free turn")
+	}
+	// The preview is running: the page's turn comes back, but the
+	// waiting page may not start until the preview is done.
+	tr.release(pagePriority)
+	if second(20 * time.Millisecond) {
+		t.Fatal("a page started while a preview was running")
+	}
+	// The preview's save goes away to the database: still no page.
+	tr.leave(interactivePriority)
+	if second(20 * time.Millisecond) {
+		t.Fatal("a page started while a save was away at the database")
+	}
+	tr.back(interactivePriority)
+	if !second(time.Second) {
+		t.Fatal("the page did not start once previews and saves were done")
+	}
+	tr.release(pagePriority)
+	if tr.free != 2 || tr.pages != 0 || tr.fast != 0 || tr.away != 0 {
+		t.Errorf("turns not all back: %+v", tr)
+	}
+}
+
+// A save that steps away through the handler gives its turn to a waiting
+// preview, and comes back for a turn before drawing.
+func TestStepAwayLendsTheTurn(t *testing.T) {
+	s := &Server{turns: newTurns(1)}
+	previewRan := make(chan struct{})
+	var preview func(time.Duration) bool
+	h := s.inTurn(interactivePriority, func(w http.ResponseWriter, r *http.Request) {
+		preview = acquireAsync(s.turns, interactivePriority)
+		if preview(20 * time.Millisecond) {
+			t.Error("the preview ran while the save held the only turn")
+		}
+		stepAway(r)
+		if !preview(time.Second) {
+			t.Error("the preview did not get the turn the save stepped away from")
+		}
+		close(previewRan)
+		s.turns.release(interactivePriority) // the preview is done
+		if !stepBack(r) {
+			t.Error("the save did not get a turn back")
+		}
+		w.WriteHeader(http.StatusSeeOther)
+	})
+	rec := httptest.NewRecorder()
+	h(rec, httptest.NewRequest(http.MethodPost, "/", nil))
+	<-previewRan
+	if rec.Code != http.StatusSeeOther {
+		t.Errorf("status %d, want 303", rec.Code)
+	}
+	if s.turns.free != 1 || s.turns.fast != 0 || s.turns.away != 0 {
+		t.Errorf("turns not all back: %+v", s.turns)
+	}
+}
