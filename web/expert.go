@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"math"
 	"net/http"
+	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -357,6 +358,11 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	// Go's scheduler has no priorities: once running, a page would keep
+	// its CPU until done while the goroutines that read and answer
+	// previews and saves wait for one. The page lets them run first
+	// between its parts.
+	runtime.Gosched()
 	var typed map[string]string
 	var preview *previewView
 	if n := len(sc.own); n > 0 {
@@ -369,6 +375,7 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	v := s.questionView(r, sc, typed, "")
 	v.Preview = preview
 	v.Saved = r.URL.Query().Get("saved") == "1"
+	runtime.Gosched()
 	s.renderQuestion(w, r, http.StatusOK, sc, v)
 }
 
