@@ -24,6 +24,7 @@ type DB struct {
 	path string
 	w    *sql.DB // the single writer
 	r    *sql.DB // readers
+	rows *rows   // rows every expert request reads (cache.go)
 }
 
 // dsn builds the connection string. synchronous=FULL makes SQLite sync the
@@ -82,7 +83,7 @@ func open(path string) (*DB, error) {
 		return nil, fmt.Errorf("store: open %s: %w", path, err)
 	}
 	r.SetMaxOpenConns(4)
-	return &DB{path: path, w: w, r: r}, nil
+	return &DB{path: path, w: w, r: r, rows: newRows()}, nil
 }
 
 // Close closes both pools.
@@ -101,8 +102,16 @@ type querier interface {
 }
 
 // write runs fn in one IMMEDIATE transaction on the writer, committing
-// when fn returns nil and rolling back otherwise.
+// when fn returns nil and rolling back otherwise; then it moves the row
+// cache's generation on (cache.go).
 func (db *DB) write(ctx context.Context, fn func(tx *sql.Tx) error) error {
+	defer db.rows.changed()
+	return db.writeRevision(ctx, fn)
+}
+
+// writeRevision is write for a transaction that only adds revisions,
+// which no cached row holds.
+func (db *DB) writeRevision(ctx context.Context, fn func(tx *sql.Tx) error) error {
 	tx, err := db.w.BeginTx(ctx, nil)
 	if err != nil {
 		return fmt.Errorf("store: begin: %w", err)

@@ -102,12 +102,14 @@ func (db *DB) ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Exper
 	if len(tokenHash) == 0 {
 		return elicit.Expert{}, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
 	}
-	e, err := scanExpert(db.r.QueryRowContext(ctx,
-		`SELECT `+expertColumns+` FROM experts WHERE token_hash = ? AND revoked = 0`, tokenHash))
-	if errors.Is(err, sql.ErrNoRows) {
-		return e, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
-	}
-	return e, err
+	return remembered(db.rows, db.rows.byToken, string(tokenHash), func() (elicit.Expert, error) {
+		e, err := scanExpert(db.r.QueryRowContext(ctx,
+			`SELECT `+expertColumns+` FROM experts WHERE token_hash = ? AND revoked = 0`, tokenHash))
+		if errors.Is(err, sql.ErrNoRows) {
+			return e, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
+		}
+		return e, err
+	})
 }
 
 // ReissueToken gives an expert a new access token, which also lifts a

@@ -60,12 +60,15 @@ func (db *DB) AddQuestion(ctx context.Context, q *elicit.Question) error {
 
 // Question returns the question with the given ID.
 func (db *DB) Question(ctx context.Context, id int64) (elicit.Question, error) {
-	q, err := scanQuestion(db.r.QueryRowContext(ctx,
-		`SELECT `+questionColumns+` FROM questions WHERE id = ?`, id))
-	if errors.Is(err, sql.ErrNoRows) {
-		return q, notFound("question", id)
-	}
-	return q, err
+	q, err := remembered(db.rows, db.rows.questions, id, func() (elicit.Question, error) {
+		q, err := scanQuestion(db.r.QueryRowContext(ctx,
+			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, id))
+		if errors.Is(err, sql.ErrNoRows) {
+			return q, notFound("question", id)
+		}
+		return q, err
+	})
+	return copyQuestion(q), err
 }
 
 // Questions returns a workshop's questions in position order.

@@ -24,7 +24,7 @@ func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
 		return err
 	}
 	at := now()
-	return db.write(ctx, func(tx *sql.Tx) error {
+	return db.writeRevision(ctx, func(tx *sql.Tx) error {
 		var (
 			workshopID int64
 			round      int

@@ -55,7 +55,7 @@ func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
 
 // Workshop returns the workshop with the given ID.
 func (db *DB) Workshop(ctx context.Context, id int64) (elicit.Workshop, error) {
-	return readWorkshop(ctx, db.r, id)
+	return remembered(db.rows, db.rows.workshops, id, func() (elicit.Workshop, error) { return readWorkshop(ctx, db.r, id) })
 }
 
 func readWorkshop(ctx context.Context, db querier, id int64) (elicit.Workshop, error) {
