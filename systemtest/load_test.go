@@ -26,6 +26,10 @@ import (
 type loadSize struct {
 	experts, questions, rounds, clients int
 	limit                               time.Duration // the whole run stops by then
+	// child serves from the real binary in its own process, as a
+	// workshop is served; otherwise the server runs inside the test's
+	// process, where the race detector sees it.
+	child bool
 }
 
 // fullLoad is the workshop of issue 4: 200 experts, 10 questions, 2
@@ -77,7 +81,8 @@ func quantile(sorted []time.Duration, p float64) time.Duration {
 type loadResult struct {
 	size     loadSize
 	elapsed  time.Duration
-	cpu      time.Duration // user+system CPU of this process (server and clients) during the run
+	cpu      time.Duration // user+system CPU of this process (clients, and the server when in-process) during the run
+	childCPU time.Duration // user+system CPU of the server's process, when it is a child
 	requests int
 	acked    int
 	stored   int
@@ -94,9 +99,16 @@ func (r loadResult) report() string {
 	}
 	fmt.Fprintf(&b, "%d requests in %v (%.0f req/s overall); %d saves acknowledged, %d revisions stored\n",
 		r.requests, r.elapsed.Round(time.Millisecond), float64(r.requests)/r.elapsed.Seconds(), r.acked, r.stored)
-	fmt.Fprintf(&b, "CPU used by this process (server and clients together): %v, %.2f ms per request; "+
-		"the latencies below include waiting for a CPU on a shared machine\n",
-		r.cpu.Round(time.Millisecond), float64(r.cpu)/1e6/float64(max(1, r.requests)))
+	perReq := func(d time.Duration) float64 { return float64(d) / 1e6 / float64(max(1, r.requests)) }
+	if r.size.child {
+		fmt.Fprintf(&b, "server: the real binary in its own process on the same cores; CPU used by the server %v (%.2f ms per request), "+
+			"by the clients %v (%.2f ms per request); the latencies below include waiting for a CPU on a shared machine\n",
+			r.childCPU.Round(time.Millisecond), perReq(r.childCPU), r.cpu.Round(time.Millisecond), perReq(r.cpu))
+	} else {
+		fmt.Fprintf(&b, "server: in the test's process; CPU used by the process (server and clients together): %v, %.2f ms per request; "+
+			"the latencies below include waiting for a CPU on a shared machine\n",
+			r.cpu.Round(time.Millisecond), perReq(r.cpu))
+	}
 	fmt.Fprintf(&b, "%-20s %7s %7s %9s %9s %9s %9s\n", "endpoint", "ok", "failed", "p50", "p99", "max", "ok/s")
 	for _, l := range r.lines {
 		b.WriteString(l + "\n")
@@ -138,19 +150,30 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	if err != nil {
 		tb.Fatal(err)
 	}
-	logs := &lockedBuffer{}
-	srv, err := web.New(db, web.Options{Logger: slog.New(slog.NewTextHandler(logs, nil))})
-	if err != nil {
-		tb.Fatal(err)
+	var (
+		base      string
+		serverLog func() string
+		server    *child
+	)
+	if size.child {
+		server = startServer(tb, parleyBinary(tb), dbPath, freeAddr(tb))
+		defer server.kill()
+		base, serverLog = server.base, func() string { return server.out.tail(2000) }
+	} else {
+		logs := &lockedBuffer{}
+		srv, err := web.New(db, web.Options{Logger: slog.New(slog.NewTextHandler(logs, nil))})
+		if err != nil {
+			tb.Fatal(err)
+		}
+		ln, err := net.Listen("tcp", "127.0.0.1:0")
+		if err != nil {
+			tb.Fatal(err)
+		}
+		hs := &http.Server{Handler: srv.Handler(), ReadHeaderTimeout: 10 * time.Second}
+		go hs.Serve(ln)
+		defer hs.Close()
+		base, serverLog = "http://"+ln.Addr().String(), func() string { return logs.tail(2000) }
 	}
-	ln, err := net.Listen("tcp", "127.0.0.1:0")
-	if err != nil {
-		tb.Fatal(err)
-	}
-	hs := &http.Server{Handler: srv.Handler(), ReadHeaderTimeout: 10 * time.Second}
-	go hs.Serve(ln)
-	defer hs.Close()
-	base := "http://" + ln.Addr().String()
 	cl := newClient(size.clients)
 	// On a shared machine a request may wait long for a CPU; the run as a
 	// whole is bounded by size.limit instead of each request by a timeout.
@@ -255,6 +278,10 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	roundPath := "/w/" + strconv.FormatInt(ws.workshopID, 10) + "/round"
 
 	cpu0 := processCPU()
+	var child0 time.Duration
+	if server != nil {
+		child0 = pidCPU(server.cmd.Process.Pid)
+	}
 	start := time.Now()
 	for round := 1; round <= size.rounds; round++ {
 		if round > 1 {
@@ -266,11 +293,15 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	}
 	elapsed := time.Since(start)
 	cpu := processCPU() - cpu0
+	var childCPU time.Duration
+	if server != nil {
+		childCPU = pidCPU(server.cmd.Process.Pid) - child0
+	}
 
 	mu.Lock()
 	defer mu.Unlock()
 	if len(failures) > 0 {
-		tb.Errorf("%d requests failed, the first:\n%s\nserver log:\n%s", nfail, strings.Join(failures, "\n"), logs.tail(2000))
+		tb.Errorf("%d requests failed, the first:\n%s\nserver log:\n%s", nfail, strings.Join(failures, "\n"), serverLog())
 	}
 	// The checks read with a fresh context: ctx may have run out.
 	check := context.Background()
@@ -300,7 +331,7 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		tb.Errorf("integrity check after load: %q, %v", verdict, err)
 	}
 
-	res := loadResult{size: size, elapsed: elapsed, cpu: cpu, acked: len(acked), stored: len(revs), p99: map[string]time.Duration{}}
+	res := loadResult{size: size, elapsed: elapsed, cpu: cpu, childCPU: childCPU, acked: len(acked), stored: len(revs), p99: map[string]time.Duration{}}
 	lat.mu.Lock()
 	defer lat.mu.Unlock()
 	for _, ep := range endpoints {
@@ -315,6 +346,31 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 			ms(quantile(d, 0.50)), ms(quantile(d, 0.99)), ms(d[len(d)-1]), float64(len(d))/elapsed.Seconds()))
 	}
 	return res
+}
+
+// pidCPU is a process's user plus system CPU time so far, from
+// /proc/<pid>/stat (fields 14 and 15, in clock ticks of 1/100 s, the
+// value of sysconf(_SC_CLK_TCK) on Linux); 0 when unreadable.
+func pidCPU(pid int) time.Duration {
+	b, err := os.ReadFile(fmt.Sprintf("/proc/%d/stat", pid))
+	if err != nil {
+		return 0
+	}
+	// The command name (field 2) is in parentheses and may hold spaces.
+	rest := string(b)
+	if i := strings.LastIndexByte(rest, ')'); i >= 0 {
+		rest = rest[i+1:]
+	}
+	f := strings.Fields(rest) // f[0] is field 3
+	if len(f) < 13 {
+		return 0
+	}
+	ut, err1 := strconv.ParseInt(f[11], 10, 64)
+	st, err2 := strconv.ParseInt(f[12], 10, 64)
+	if err1 != nil || err2 != nil {
+		return 0
+	}
+	return time.Duration(ut+st) * 10 * time.Millisecond
 }
 
 // processCPU is this process's user plus system CPU time so far.
@@ -384,15 +440,27 @@ func TestWorkshopLoad(t *testing.T) {
 
 // BenchmarkWorkshopLoad plays the full workshop (200 experts, 10
 // questions, 2 rounds, 64 clients) once per iteration and reports the
-// p99 of fit previews and saves. Run with -benchtime=1x: each iteration
-// is some 16,000 requests.
+// p99 of fit previews and saves: served by the real binary in its own
+// process (server=binary), as a workshop is served, and by the server
+// inside the test's process (server=in-process). Run with -benchtime=1x:
+// each iteration is some 16,000 requests.
 func BenchmarkWorkshopLoad(b *testing.B) {
-	for b.Loop() {
-		r := runWorkshopLoad(b, fullLoad)
-		b.ReportMetric(float64(r.p99[epPreview])/1e6, "preview-p99-ms")
-		b.ReportMetric(float64(r.p99[epSave])/1e6, "save-p99-ms")
-		b.ReportMetric(float64(r.requests)/r.elapsed.Seconds(), "req/s")
-		b.Log("\n" + r.report())
-		b.Logf("load figures written to %s", writeLoadReport(b, r))
+	for _, child := range []bool{true, false} {
+		name := "server=in-process"
+		if child {
+			name = "server=binary"
+		}
+		b.Run(name, func(b *testing.B) {
+			for b.Loop() {
+				size := fullLoad
+				size.child = child
+				r := runWorkshopLoad(b, size)
+				b.ReportMetric(float64(r.p99[epPreview])/1e6, "preview-p99-ms")
+				b.ReportMetric(float64(r.p99[epSave])/1e6, "save-p99-ms")
+				b.ReportMetric(float64(r.requests)/r.elapsed.Seconds(), "req/s")
+				b.Log("\n" + r.report())
+				b.Logf("load figures written to %s", writeLoadReport(b, r))
+			}
+		})
 	}
 }

@@ -28,6 +28,7 @@ type expertRig struct {
 	t       *testing.T
 	db      *store.DB
 	srv     *httptest.Server
+	s       *Server
 	ws      elicit.Workshop
 	q       elicit.Question // quantiles at 5/50/95
 	qi      elicit.Question // four-value interval
@@ -53,7 +54,7 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 	}
 	srv := httptest.NewServer(s.Handler())
 	t.Cleanup(srv.Close)
-	g := &expertRig{t: t, db: db, srv: srv}
+	g := &expertRig{t: t, db: db, srv: srv, s: s}
 	g.ws = elicit.Workshop{Title: "Seal wear panel (invented)", Purpose: "A prior for the share of pump seals that fail within a year.",
 		Decision: "spare-part stock", Notes: "FACILITATOR-ONLY-NOTE", Invented: true}
 	if err := db.CreateWorkshop(ctx, &g.ws); err != nil {

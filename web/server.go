@@ -5,21 +5,19 @@
 package web
 
 import (
-	"github.com/parley-elicit/parley/internal/memo"
-	"runtime"
-	"sync"
-
 	"bytes"
 	"context"
 	"errors"
 	"log/slog"
 	"net/http"
+	"runtime"
 	"strings"
+	"sync"
 	"time"
 
 	"github.com/a-h/templ"
-
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/internal/memo"
 )
 
 // Options configure a Server. The zero value works: links are printed

@@ -3,9 +3,11 @@ package web
 import (
 	"bytes"
 	"context"
+	"io"
 	"net/http"
 	"strconv"
 	"sync"
+	"time"
 )
 
 // An expert's requests take turns at the CPUs. Typing into a judgement
@@ -48,11 +50,21 @@ type turns struct {
 	fastQ       []chan struct{} // waiting previews and saves, oldest first
 	pageQ       []chan struct{} // waiting pages, oldest first
 	run         int             // previews and saves started while a page waited
+	settling    bool            // a page has just finished; see pageSettle
+	settle      *time.Timer
+	settleFor   time.Duration // pageSettle; tests lengthen it
 }
+
+// pageSettle is how long after a page finishes the next waiting page is
+// held back, unless a preview or save starts first. An expert who has
+// just been sent a page usually previews next; pages drawn back to back
+// while those previews are still on their way would send a crowd of
+// experts to preview at once.
+const pageSettle = time.Millisecond
 
 func newTurns(n int) *turns {
 	n = max(1, n)
-	return &turns{free: n, pageCap: max(1, n-1)}
+	return &turns{free: n, pageCap: max(1, n-1), settleFor: pageSettle}
 }
 
 // acquire waits for a turn; it reports false, holding no turn, when the
@@ -88,7 +100,7 @@ func (t *turns) acquire(r *http.Request, p priority) bool {
 
 // pageMay reports whether a page may start now; t.mu is held.
 func (t *turns) pageMay() bool {
-	return t.free > 0 && t.pages < t.pageCap && (len(t.fastQ) == 0 && t.fast == 0 && t.away == 0 || t.run >= fastRun)
+	return t.free > 0 && t.pages < t.pageCap && (len(t.fastQ) == 0 && t.fast+t.away < t.pageCap && !t.settling || t.run >= fastRun)
 }
 
 // start counts a turn taken at priority p; t.mu is held.
@@ -100,6 +112,7 @@ func (t *turns) start(p priority) {
 		return
 	}
 	t.fast++
+	t.settling = false
 	if len(t.pageQ) > 0 {
 		t.run++
 	}
@@ -112,9 +125,23 @@ func (t *turns) release(p priority) {
 	t.free++
 	if p == pagePriority {
 		t.pages--
+		t.settling = true
+		if t.settle == nil {
+			t.settle = time.AfterFunc(t.settleFor, t.settled)
+		} else {
+			t.settle.Reset(t.settleFor)
+		}
 	} else {
 		t.fast--
 	}
+	t.handOn()
+	t.mu.Unlock()
+}
+
+// settled ends the hold after a page (pageSettle).
+func (t *turns) settled() {
+	t.mu.Lock()
+	t.settling = false
 	t.handOn()
 	t.mu.Unlock()
 }
@@ -186,6 +213,7 @@ func removeWaiter(q *[]chan struct{}, ch chan struct{}) bool {
 // is cancelled while waiting.
 func (s *Server) inTurn(p priority, h http.HandlerFunc) http.HandlerFunc {
 	return func(w http.ResponseWriter, r *http.Request) {
+		readBodyFirst(r)
 		if !s.turns.acquire(r, p) {
 			return
 		}
@@ -206,6 +234,28 @@ func (s *Server) inTurn(p priority, h http.HandlerFunc) http.HandlerFunc {
 		held.send()
 	}
 }
+
+// readBodyFirst reads a request's body (at most the limit limitBody set)
+// before the request asks for a turn, so a client sending its body
+// slowly waits on the network without holding a turn that others need.
+// The handler reads the same bytes, and the same error if reading failed
+// (a body over the limit is still refused with 413 by the handler).
+func readBodyFirst(r *http.Request) {
+	if r.Body == nil || r.Body == http.NoBody {
+		return
+	}
+	b, err := io.ReadAll(r.Body)
+	var rd io.Reader = bytes.NewReader(b)
+	if err != nil {
+		rd = io.MultiReader(rd, failingReader{err})
+	}
+	r.Body = io.NopCloser(rd)
+}
+
+// failingReader returns its error on every read.
+type failingReader struct{ err error }
+
+func (f failingReader) Read([]byte) (int, error) { return 0, f.err }
 
 // turnHold is a handler's turn, which it may step away from.
 type turnHold struct {

@@ -2,8 +2,10 @@ package web
 
 import (
 	"context"
+	"io"
 	"net/http"
 	"net/http/httptest"
+	"strings"
 	"sync"
 	"sync/atomic"
 	"testing"
@@ -235,5 +237,112 @@ func TestStepAwayLendsTheTurn(t *testing.T) {
 	}
 	if s.turns.free != 1 || s.turns.fast != 0 || s.turns.away != 0 {
 		t.Errorf("turns not all back: %+v", s.turns)
+	}
+}
+
+// A page that finishes holds the next waiting page back until a preview
+// or save starts (or pageSettle passes), so pages are not drawn back to
+// back while their experts' previews are on the way.
+func TestPageSettlesBeforeTheNext(t *testing.T) {
+	tr := newTurns(2)
+	tr.settleFor = time.Hour // only a preview ends the hold here
+	req := httptest.NewRequest(http.MethodGet, "/", nil)
+	if !tr.acquire(req, pagePriority) {
+		t.Fatal("no turn for the first page")
+	}
+	next := acquireAsync(tr, pagePriority)
+	waitQueued(t, tr, 0, 1)
+	tr.release(pagePriority)
+	tr.mu.Lock()
+	held := len(tr.pageQ) == 1 && tr.settling
+	tr.mu.Unlock()
+	if !held {
+		t.Fatal("the next page started the moment the first finished")
+	}
+	// The first page's expert previews: the hold ends, but the page
+	// waits while the preview runs (one turn is kept for previews).
+	if !tr.acquire(req, interactivePriority) {
+		t.Fatal("no turn for the preview")
+	}
+	tr.mu.Lock()
+	settling := tr.settling
+	tr.mu.Unlock()
+	if settling {
+		t.Error("a starting preview did not end the hold")
+	}
+	tr.release(interactivePriority)
+	if !next(time.Second) {
+		t.Fatal("the waiting page never started")
+	}
+	tr.release(pagePriority)
+}
+
+// A client that sends its save's body slowly holds no turn while it
+// does: with a single turn, another expert's preview still gets through,
+// and the slow save is stored once its body arrives.
+func TestSlowBodyHoldsNoTurn(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	g.s.turns = newTurns(1)
+	form := quantiles("0.05", "0.2", "0.4")
+	form.Set("reason", "sent slowly")
+	body := form.Encode()
+	pr, pw := io.Pipe()
+	req, err := http.NewRequest(http.MethodPost, g.srv.URL+g.qpath(0, g.q)+"/save", pr)
+	if err != nil {
+		t.Fatal(err)
+	}
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", g.srv.URL)
+	req.ContentLength = int64(len(body))
+	type result struct {
+		status int
+		err    error
+	}
+	done := make(chan result, 1)
+	go func() {
+		res, err := (&http.Client{CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}).Do(req)
+		if err != nil {
+			done <- result{0, err}
+			return
+		}
+		res.Body.Close()
+		done <- result{res.StatusCode, nil}
+	}()
+	if _, err := pw.Write([]byte(body[:10])); err != nil { // the head and a little of the body
+		t.Fatal(err)
+	}
+	time.Sleep(50 * time.Millisecond) // let the server start reading it
+	preview := make(chan int, 1)
+	go func() {
+		pv, _ := http.NewRequest(http.MethodPost, g.srv.URL+g.qpath(1, g.q)+"/preview?fragment=1",
+			strings.NewReader(quantiles("0.02", "0.08", "0.2").Encode()))
+		pv.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+		pv.Header.Set("Origin", g.srv.URL)
+		res, err := http.DefaultClient.Do(pv)
+		if err != nil {
+			preview <- 0
+			return
+		}
+		res.Body.Close()
+		preview <- res.StatusCode
+	}()
+	select {
+	case status := <-preview:
+		if status != http.StatusOK {
+			t.Errorf("preview beside a slow save: status %d, want 200", status)
+		}
+	case <-time.After(10 * time.Second):
+		t.Error("a preview waited behind a save whose body had not arrived")
+	}
+	if _, err := pw.Write([]byte(body[10:])); err != nil {
+		t.Fatal(err)
+	}
+	pw.Close()
+	if r := <-done; r.err != nil || r.status != http.StatusSeeOther {
+		t.Fatalf("slow save: status %d, error %v; want 303", r.status, r.err)
+	}
+	revs := g.revisions()
+	if len(revs) != 1 || revs[0].Reason != "sent slowly" {
+		t.Errorf("stored %+v, want the slow save", revs)
 	}
 }

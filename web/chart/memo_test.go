@@ -138,3 +138,37 @@ func TestCoordMatchesFloatFormatting(t *testing.T) {
 		}
 	}
 }
+
+// A pool's window is snapped to round steps: it only widens, stays in the
+// bounds, and two experts whose own curves differ a little share it, so
+// the pool is sampled once for both.
+func TestPoolWindowIsShared(t *testing.T) {
+	for _, w := range [][2]float64{{0.013, 0.41}, {0.2, 0.9}, {1e-5, 3e-4}} {
+		s0, s1 := snapWindow(w[0], w[1], 0, 1)
+		if s0 > w[0] || s1 < w[1] || s0 < 0 || s1 > 1 {
+			t.Errorf("snapWindow(%v) = [%v, %v]: not a widening inside [0, 1]", w, s0, s1)
+		}
+		if grow := (s0 - w[0]) + (s1 - w[1]); math.Abs(grow) > 0.2*(w[1]-w[0]) {
+			t.Errorf("snapWindow(%v) = [%v, %v] grows by more than a fifth", w, s0, s1)
+		}
+	}
+	panel := []elicit.ScaledBeta{sbeta(2, 8, 0, 1), sbeta(3, 5, 0, 1), sbeta(5, 5, 0, 1)}
+	pool, err := elicit.LinearPool(panel, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	draw := func(own elicit.ScaledBeta) panelModel {
+		return newPanelModel(PanelView{ID: "p", Quantity: "Failure share", Lower: 0, Upper: 1, Curves: []Curve{
+			{Label: "You", Role: RoleExpert, Dist: own},
+			{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantiles: pool.Quantiles, Components: pool.Components},
+		}})
+	}
+	mixSamples.Reset()
+	a, b := draw(sbeta(2.1, 8, 0, 1)), draw(sbeta(2.2, 8.3, 0, 1))
+	if a.Twin.X0 != b.Twin.X0 || a.Twin.X1 != b.Twin.X1 {
+		t.Errorf("windows [%v, %v] and [%v, %v] differ for nearly equal own curves", a.Twin.X0, a.Twin.X1, b.Twin.X0, b.Twin.X1)
+	}
+	if n := mixSamples.Len(); n != 1 {
+		t.Errorf("the pool was sampled for %d windows, want 1", n)
+	}
+}

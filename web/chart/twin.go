@@ -110,6 +110,12 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		}
 	}
 	x0, x1 := window(lower, upper, tails, extra)
+	for _, c := range curves {
+		if c.valid() && c.usesFuncs() {
+			x0, x1 = snapWindow(x0, x1, lower, upper)
+			break
+		}
+	}
 	g := twinGeom{X0: x0, X1: x1}
 	dens := frame{Left: twinLeft, Top: twinTop, Width: twinPlotW, Height: twinDensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	cumul := frame{Left: twinLeft, Top: twinTop + twinDensityH + twinGap, Width: twinPlotW, Height: twinCDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
@@ -207,6 +213,23 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 	g.Height = cumul.bottom() + twinBelow + 15*float64(len(g.Notes))
 	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
 	return g
+}
+
+// snapWindow widens [x0, x1] outward to whole multiples of a round step
+// of about a sixteenth of its width, within [lower, upper]. It is used
+// when a pool is drawn. A pool is drawn beside each expert's own curve,
+// whose tails move the window a little for each expert, and sampling a
+// pool of many experts afresh for every window costs each component's
+// CDF at every point. Snapped, nearby windows fall together, the experts'
+// pages share a few windows, and the pool's samples for each are
+// remembered. The window grows by less than a step on each side.
+func snapWindow(x0, x1, lower, upper float64) (float64, float64) {
+	if !isFinite(x0) || !isFinite(x1) || !(x1 > x0) {
+		return x0, x1
+	}
+	step := niceStep(x1-x0, 16)
+	s0, s1 := math.Floor(x0/step)*step, math.Ceil(x1/step)*step
+	return math.Max(lower, s0), math.Min(upper, s1)
 }
 
 // ownTop is the density cap of a mixture over its own window: the
