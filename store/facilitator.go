@@ -58,6 +58,18 @@ func (db *DB) CreateSession(ctx context.Context, tokenHash []byte, expires time.
 	})
 }
 
+// EndSession deletes the facilitator session with this token hash (a
+// sign-out), so the token stops working at once. Deleting one that does
+// not exist is not an error.
+func (db *DB) EndSession(ctx context.Context, tokenHash []byte) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		if _, err := tx.ExecContext(ctx, `DELETE FROM sessions WHERE token_hash = ?`, tokenHash); err != nil {
+			return fmt.Errorf("store: end session: %w", err)
+		}
+		return nil
+	})
+}
+
 // SessionValid reports whether a session with this token hash exists and
 // expires after now.
 func (db *DB) SessionValid(ctx context.Context, tokenHash []byte, now time.Time) (bool, error) {

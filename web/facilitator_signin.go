@@ -37,7 +37,17 @@ func (s *Server) signIn(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, "/", http.StatusSeeOther)
 }
 
+// signOut ends the session in the store, so its token stops working even
+// if a copy of the cookie survives, and clears the cookie.
 func (s *Server) signOut(w http.ResponseWriter, r *http.Request) {
+	if c, err := r.Cookie(sessionCookie); err == nil {
+		if hash, ok := tokenHash(c.Value); ok {
+			if err := s.store.EndSession(r.Context(), hash); err != nil {
+				s.fail(w, r, err)
+				return
+			}
+		}
+	}
 	s.endSession(w, r)
 	http.Redirect(w, r, "/signin", http.StatusSeeOther)
 }

@@ -238,6 +238,40 @@ func TestFacilitatorPagesNeedSession(t *testing.T) {
 	}
 }
 
+// Signing out ends the session itself: a copy of the cookie kept from
+// before (another tab, a stolen copy) no longer signs anyone in.
+func TestSignOutEndsTheSession(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	u, _ := url.Parse(h.ts.URL)
+	var kept *http.Cookie
+	for _, c := range h.client.Jar.Cookies(u) {
+		if c.Name == sessionCookie {
+			kept = c
+		}
+	}
+	if kept == nil {
+		t.Fatal("no session cookie after sign-in")
+	}
+	if res, _ := h.post("/signout", url.Values{}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("sign-out: status %d", res.StatusCode)
+	}
+	req, _ := http.NewRequest(http.MethodGet, h.ts.URL+"/", nil)
+	req.AddCookie(&http.Cookie{Name: sessionCookie, Value: kept.Value})
+	res, err := (&http.Client{CheckRedirect: h.client.CheckRedirect}).Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Body.Close()
+	if res.StatusCode != http.StatusSeeOther {
+		t.Errorf("the signed-out session's cookie still opens / (status %d)", res.StatusCode)
+	}
+	hash, _ := tokenHash(kept.Value)
+	if ok, err := h.db.SessionValid(context.Background(), hash, time.Now()); ok || err != nil {
+		t.Errorf("session still valid in the store after sign-out: %v, %v", ok, err)
+	}
+}
+
 func TestSignIn(t *testing.T) {
 	h := newHarness(t)
 	secret, err := EnsureFacilitatorSecret(context.Background(), h.db)

@@ -63,4 +63,5 @@ type Store interface {
 	SetFacilitatorHash(ctx context.Context, hash []byte) error
 	CreateSession(ctx context.Context, tokenHash []byte, expires time.Time) error
 	SessionValid(ctx context.Context, tokenHash []byte, now time.Time) (bool, error)
+	EndSession(ctx context.Context, tokenHash []byte) error // sign-out
 }
