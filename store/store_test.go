@@ -569,6 +569,22 @@ func TestFacilitatorSessions(t *testing.T) {
 			t.Errorf("SessionValid(%s, %v) = %v, %v; want %v", c.token, c.at, got, err, c.want)
 		}
 	}
+	// Ending one session leaves the others; ending an unknown one is fine.
+	if err := db.CreateSession(ctx, []byte("s3"), t0.Add(time.Hour)); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.EndSession(ctx, []byte("s3")); err != nil {
+		t.Fatal(err)
+	}
+	if err := db.EndSession(ctx, []byte("never")); err != nil {
+		t.Errorf("ending an unknown session: %v", err)
+	}
+	if ok, _ := db.SessionValid(ctx, []byte("s3"), t0); ok {
+		t.Error("an ended session is still valid")
+	}
+	if ok, _ := db.SessionValid(ctx, []byte("s1"), t0); !ok {
+		t.Error("ending one session ended another")
+	}
 	if err := db.SetFacilitatorHash(ctx, []byte("h2")); err != nil {
 		t.Fatal(err)
 	}
