@@ -1,6 +1,7 @@
 package store
 
 import (
+	"bytes"
 	"context"
 	"path/filepath"
 	"testing"
@@ -77,6 +78,22 @@ func TestMigrateFromEveryVersion(t *testing.T) {
 		if k >= 3 {
 			if h, err := db.FacilitatorHash(ctx); err != nil || string(h) != "v3" {
 				t.Fatalf("from version %d: facilitator hash %q, %v", k, h, err)
+			}
+		}
+		if k >= 1 { // version 4: every workshop has its panel salt
+			old, err := db.PanelSalt(ctx, w.ID)
+			if err != nil || len(old) != 32 {
+				t.Fatalf("from version %d: panel salt %x, %v", k, old, err)
+			}
+			nw := elicit.Workshop{Title: "Made after the upgrade (invented)"}
+			if err := db.CreateWorkshop(ctx, &nw); err != nil {
+				t.Fatal(err)
+			}
+			if salt, err := db.PanelSalt(ctx, nw.ID); err != nil || len(salt) != 32 || bytes.Equal(salt, old) {
+				t.Fatalf("from version %d: new workshop's panel salt %x (old %x), %v", k, salt, old, err)
+			}
+			if _, err := db.w.ExecContext(ctx, `UPDATE panel_salts SET salt = randomblob(32)`); err == nil {
+				t.Fatalf("from version %d: a panel salt was changed", k)
 			}
 		}
 		// A second Migrate is a no-op.

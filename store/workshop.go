@@ -67,6 +67,21 @@ func readWorkshop(ctx context.Context, db querier, id int64) (elicit.Workshop, e
 	return w, err
 }
 
+// PanelSalt returns the workshop's random 32-byte salt for the order of
+// its anonymised round feedback; it is made with the workshop and never
+// changes, and is never shown or exported.
+func (db *DB) PanelSalt(ctx context.Context, workshopID int64) ([]byte, error) {
+	var salt []byte
+	err := db.r.QueryRowContext(ctx, `SELECT salt FROM panel_salts WHERE workshop_id = ?`, workshopID).Scan(&salt)
+	if errors.Is(err, sql.ErrNoRows) {
+		return nil, notFound("workshop", workshopID)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("store: panel salt: %w", err)
+	}
+	return salt, nil
+}
+
 // Workshops returns every workshop, oldest first.
 func (db *DB) Workshops(ctx context.Context) ([]elicit.Workshop, error) {
 	rows, err := db.r.QueryContext(ctx, `SELECT `+workshopColumns+` FROM workshops ORDER BY id`)

@@ -1,6 +1,7 @@
 package web
 
 import (
+	"crypto/hmac"
 	"crypto/sha256"
 	"encoding/hex"
 	"errors"
@@ -649,8 +650,8 @@ func problemSummary(af answerForm, f *Form) string {
 
 // anonymousPanel draws, from round 2, the panel as it stood when the
 // previous round closed (elicit's FeedbackRound): the other experts'
-// fitted curves without names, in an order fixed by a hash of the
-// question and the expert (not by name, id or time of answer), beside
+// fitted curves without names, in the order of panelOrder (not by name,
+// id or time of answer), beside
 // the asking expert's own current curve and the equal-weight pool of the
 // whole panel at that close. Beyond overlayLimit other experts it
 // returns a spread instead: the own curve and the pool, with each other
@@ -739,6 +740,10 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 		if err != nil {
 			return nil, err
 		}
+		salt, err := s.store.PanelSalt(r.Context(), sc.workshop.ID)
+		if err != nil {
+			return nil, err
+		}
 		gone := map[int64]bool{}
 		for _, id := range revoked {
 			gone[id] = true
@@ -749,7 +754,7 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 				kept = append(kept, rv)
 			}
 		}
-		return newFeedback(sc.question, kept), nil
+		return newFeedback(sc.question, kept, salt), nil
 	})
 	if err != nil {
 		return nil, err
@@ -761,9 +766,9 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 }
 
 // newFeedback fits the revisions (through the fit cache), orders the
-// experts by a hash of question and expert, and pools them with equal
-// weights. Revisions that cannot be fitted are left out.
-func newFeedback(q elicit.Question, revs []elicit.Revision) *feedback {
+// experts by panelOrder, and pools them with equal weights. Revisions
+// that cannot be fitted are left out.
+func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedback {
 	type keyed struct {
 		key string
 		m   feedbackMember
@@ -776,8 +781,7 @@ func newFeedback(q elicit.Question, revs []elicit.Revision) *feedback {
 			continue
 		}
 		dists = append(dists, fit.Dist)
-		sum := sha256.Sum256([]byte(fmt.Sprintf("parley panel order %d %d", q.ID, rv.ExpertID)))
-		ks = append(ks, keyed{hex.EncodeToString(sum[:]), feedbackMember{rv.ExpertID, fit.Dist}})
+		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), feedbackMember{rv.ExpertID, fit.Dist}})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
 	fb := &feedback{}
@@ -793,6 +797,17 @@ func newFeedback(q elicit.Question, revs []elicit.Revision) *feedback {
 }
 
 var errNoFits = errors.New("no fitted judgement to pool")
+
+// panelOrder is an expert's sort key in a question's anonymised feedback:
+// HMAC-SHA-256 under the workshop's secret panel salt of the question's
+// and the expert's ids. The order says nothing about names, ids or times
+// of answer, differs from question to question, and cannot be recomputed
+// by anyone without the salt, which is never shown.
+func panelOrder(salt []byte, questionID, expertID int64) string {
+	m := hmac.New(sha256.New, salt)
+	fmt.Fprintf(m, "parley panel order %d %d", questionID, expertID)
+	return hex.EncodeToString(m.Sum(nil))
+}
 
 // overlayLimit is the most other experts whose curves are overlaid one by
 // one. Beyond a dozen, overlaid curves cannot be told apart anyway (the

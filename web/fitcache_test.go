@@ -1,9 +1,12 @@
 package web
 
 import (
+	"bytes"
 	"context"
 	"net/http"
 	"reflect"
+	"slices"
+	"sort"
 	"strings"
 	"sync"
 	"testing"
@@ -251,5 +254,26 @@ func TestPreviewFragmentIsOnlyTheFit(t *testing.T) {
 		if strings.Contains(frag, absent) {
 			t.Errorf("fragment carries %q", absent)
 		}
+	}
+}
+
+// The feedback's order is keyed by the workshop's secret salt: stable for
+// one salt, different under another, so knowing the ids is not enough to
+// tell which curve is whose.
+func TestPanelOrderNeedsTheSalt(t *testing.T) {
+	a, b := bytes.Repeat([]byte{1}, 32), bytes.Repeat([]byte{2}, 32)
+	order := func(salt []byte) []int64 {
+		ids := []int64{1, 2, 3, 4, 5, 6, 7, 8}
+		sort.Slice(ids, func(i, j int) bool { return panelOrder(salt, 9, ids[i]) < panelOrder(salt, 9, ids[j]) })
+		return ids
+	}
+	if !slices.Equal(order(a), order(a)) {
+		t.Error("the order under one salt is not stable")
+	}
+	if slices.Equal(order(a), order(b)) {
+		t.Errorf("two salts give the same order %v", order(a))
+	}
+	if panelOrder(a, 9, 1) == panelOrder(a, 10, 1) {
+		t.Error("the order does not change from question to question")
 	}
 }

@@ -17,6 +17,9 @@ type Store interface {
 	UpdateWorkshop(ctx context.Context, w elicit.Workshop) error  // title, purpose, decision, notes only
 	Workshop(ctx context.Context, id int64) (elicit.Workshop, error)
 	Workshops(ctx context.Context) ([]elicit.Workshop, error)
+	// PanelSalt is the workshop's secret salt for the order of its
+	// anonymised round feedback.
+	PanelSalt(ctx context.Context, workshopID int64) ([]byte, error)
 	// SetRound closes the current round (open=false) or opens round n
 	// (open=true, n = current+1), recording the event with its reason in
 	// the same transaction.
