@@ -113,13 +113,17 @@ func newSpreadModel(v SpreadView) spreadModel {
 	for i, r := range iv {
 		medians[i] = r.p50
 	}
-	q := func(p float64) float64 { return nearestRank(medians, p) }
+	// The medians are finite (checked above), so the summary cannot fail.
+	ms, err := elicit.SpreadOfMedians(medians)
+	if err != nil {
+		return m
+	}
 	m.Quartiles = []spreadQuartile{
-		{"lowest", FormatValue(medians[0])},
-		{"lower quartile", FormatValue(q(0.25))},
-		{"median", FormatValue(q(0.5))},
-		{"upper quartile", FormatValue(q(0.75))},
-		{"highest", FormatValue(medians[len(medians)-1])},
+		{"lowest", FormatValue(ms.Lowest)},
+		{"lower quartile", FormatValue(ms.LowerQuartile)},
+		{"median", FormatValue(ms.Median)},
+		{"upper quartile", FormatValue(ms.UpperQuartile)},
+		{"highest", FormatValue(ms.Highest)},
 	}
 	what := "experts'"
 	if len(iv) == 1 {
@@ -130,12 +134,4 @@ func newSpreadModel(v SpreadView) spreadModel {
 		"The other %d %s medians run from %s to %s; half of them lie between %s and %s.",
 		len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
 	return m
-}
-
-// nearestRank is the p-quantile of sorted xs by the nearest-rank rule
-// (the ⌈p·n⌉-th smallest), so each quartile is one expert's own median.
-func nearestRank(sorted []float64, p float64) float64 {
-	k := int(math.Ceil(p*float64(len(sorted)))) - 1
-	k = max(0, min(len(sorted)-1, k))
-	return sorted[k]
 }
