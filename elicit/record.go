@@ -205,9 +205,7 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 		if !q.Revealed {
 			rq.TrueValue = nil
 		}
-		var dists []ScaledBeta
-		var weights []float64
-		var pooled []int64
+		var panel []PanelFit
 		for _, e := range src.Experts {
 			i, ok := latest[[2]int64{q.ID, e.ID}]
 			if !ok {
@@ -217,20 +215,19 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 			rq.CurrentFits = append(rq.CurrentFits, CurrentFit{
 				ExpertID: e.ID, RevisionID: rv.ID, Round: rv.Round, Fit: rv.Fit, FitError: rv.FitError,
 			})
-			if rv.Fit == nil || e.Revoked {
-				continue
+			m := PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
+			if rv.Fit != nil {
+				d := rv.Fit.Dist
+				m.Dist = &d
 			}
-			dists = append(dists, rv.Fit.Dist)
-			weights = append(weights, src.Weights.Of(e.ID))
-			pooled = append(pooled, e.ID)
+			panel = append(panel, m)
 		}
-		if len(dists) > 0 {
-			pool, err := buildPool(dists, weights, pooled)
-			if err != nil {
-				rq.PoolError = err.Error()
-			} else {
-				rq.Pool = pool
-			}
+		switch pp, err := PoolPanel(panel, src.Weights); {
+		case errors.Is(err, ErrNoFits):
+		case err != nil:
+			rq.PoolError = err.Error()
+		default:
+			rq.Pool = recordPool(pp)
 		}
 		for _, ap := range src.Priors {
 			if ap.QuestionID == q.ID {
@@ -247,17 +244,11 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 	return r, nil
 }
 
-func buildPool(dists []ScaledBeta, weights []float64, experts []int64) (*RecordPool, error) {
-	pool, err := LinearPool(dists, weights)
-	if err != nil {
-		return nil, err
-	}
-	total := 0.0
-	for _, w := range weights {
-		total += w
-	}
+// recordPool is a panel's pool as the record writes it.
+func recordPool(pp PanelPool) *RecordPool {
+	pool := pp.Pool
 	rp := &RecordPool{
-		Weights:     make([]ExpertWeight, len(experts)),
+		Weights:     make([]ExpertWeight, len(pp.Experts)),
 		Mean:        pool.Mean(),
 		SD:          pool.SD(),
 		Percentiles: Percentiles{pool.Quantile(0.05), pool.Quantile(0.5), pool.Quantile(0.95)},
@@ -269,10 +260,10 @@ func buildPool(dists []ScaledBeta, weights []float64, experts []int64) (*RecordP
 		rp.BestBeta = &RecordBestBeta{Dist: best.Dist, SSE: best.SSE, MaxCDFError: best.MaxCDFError,
 			QuantileDiffs: Percentiles{d[0], d[1], d[2]}}
 	}
-	for i, id := range experts {
-		rp.Weights[i] = ExpertWeight{ExpertID: id, Weight: weights[i] / total}
+	for i, id := range pp.Experts {
+		rp.Weights[i] = ExpertWeight{ExpertID: id, Weight: pp.Weights[i]}
 	}
-	return rp, nil
+	return rp
 }
 
 // PriorSnippets writes d as Stan, R, PyMC and JAGS write a Beta prior on a

@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"net/http"
 	"strconv"
@@ -17,8 +18,9 @@ type expertFitRow struct {
 	Revision *elicit.Revision // latest; nil when the expert has not answered
 	Saves    int              // revisions on this question, all rounds
 	Fit      *elicit.Fit
-	FitError string // why the saved answer could not be fitted
-	Weight   float64
+	FitError string  // why the saved answer could not be fitted
+	Weight   float64 // as set, unnormalised (Weights.Of)
+	Share    float64 // normalised weight in the pool (elicit.PoolPanel)
 	Pooled   bool
 }
 
@@ -93,8 +95,7 @@ func (d workshopData) state(q elicit.Question) questionState {
 			st.Agreed = append(st.Agreed, p)
 		}
 	}
-	var dists []elicit.ScaledBeta
-	var weights []float64
+	var panel []elicit.PanelFit
 	for _, e := range d.Experts {
 		row := expertFitRow{Expert: e}
 		for i := range st.History {
@@ -103,31 +104,38 @@ func (d workshopData) state(q elicit.Question) questionState {
 				row.Saves++
 			}
 		}
+		m := elicit.PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
 		if row.Revision != nil {
 			fit, err := fits.fit(q, *row.Revision)
 			if err != nil {
 				row.FitError = err.Error()
 			} else {
 				row.Fit = &fit
+				m.Dist = &fit.Dist
 			}
 		}
-		if row.Fit != nil && !e.Revoked {
-			row.Pooled = true
-			row.Weight = d.Weights.Of(e.ID)
-			dists = append(dists, row.Fit.Dist)
-			weights = append(weights, row.Weight)
-		}
+		panel = append(panel, m)
 		st.Rows = append(st.Rows, row)
 	}
-	if len(dists) == 0 {
+	pp, err := elicit.PoolPanel(panel, d.Weights)
+	switch {
+	case errors.Is(err, elicit.ErrNoFits):
 		st.PoolError = "No expert has a fitted judgement on this question yet."
 		return st
-	}
-	pool, err := elicit.LinearPool(dists, weights)
-	if err != nil {
+	case err != nil:
 		st.PoolError = "The pool cannot be formed: " + err.Error()
 		return st
 	}
+	for i, id := range pp.Experts {
+		for k := range st.Rows {
+			if st.Rows[k].Expert.ID == id {
+				st.Rows[k].Pooled = true
+				st.Rows[k].Weight = d.Weights.Of(id)
+				st.Rows[k].Share = pp.Weights[i]
+			}
+		}
+	}
+	pool := pp.Pool
 	st.Pool = &pool
 	rep, err := pool.BestBeta()
 	if err != nil {
@@ -136,20 +144,6 @@ func (d workshopData) state(q elicit.Question) questionState {
 		st.Rep = &rep
 	}
 	return st
-}
-
-// normalisedWeight is row's share of the pool's total weight.
-func (st questionState) normalisedWeight(row expertFitRow) float64 {
-	total := 0.0
-	for _, r := range st.Rows {
-		if r.Pooled {
-			total += r.Weight
-		}
-	}
-	if !row.Pooled || total == 0 {
-		return 0
-	}
-	return row.Weight / total
 }
 
 // chartView overlays every pooled expert's fit, the pool and the agreed

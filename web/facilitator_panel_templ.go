@@ -606,9 +606,9 @@ func judgementTable(st questionState, wsID int64) templ.Component {
 					}
 					if row.Pooled {
 						var templ_7745c5c3_Var29 string
-						templ_7745c5c3_Var29, templ_7745c5c3_Err = templ.JoinStringErrs(pct(st.normalisedWeight(row)))
+						templ_7745c5c3_Var29, templ_7745c5c3_Err = templ.JoinStringErrs(pct(row.Share))
 						if templ_7745c5c3_Err != nil {
-							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_panel.templ`, Line: 156, Col: 41}
+							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_panel.templ`, Line: 156, Col: 26}
 						}
 						_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var29))
 						if templ_7745c5c3_Err != nil {
