@@ -18,8 +18,8 @@ import (
 // for a turn, and a waiting preview or save is given the next turn
 // before a waiting page. So queueing lands on page loads, and previews
 // and saves stay quick; pages are still never starved, since after
-// fastRun turns in a row go to previews and saves while a page waits,
-// the next goes to the page.
+// fastRun previews and saves have started while a page waits, the page
+// goes next.
 
 // priority is a request's place in the queue for a turn.
 type priority int
@@ -35,12 +35,14 @@ const fastRun = 16
 
 // turns admits at most n handlers at once. A preview or save starts
 // whenever a turn is free. A page starts only when no preview or save is
-// waiting or running, and then at most n−1 (but at least one) pages run
-// at once: a page sends its expert on to previews and saves, so starting
-// pages only while those are idle keeps the line of previews and saves
-// short, and the waiting falls on page loads instead. After fastRun
-// previews and saves have started while a page waited, the page starts
-// at the next free turn whatever else is waiting.
+// waiting, fewer than n−1 are running or away at the database, no other
+// page has finished within pageSettle (unless a preview or save has
+// started since), and fewer than n−1 pages (but at least one) run at
+// once. A page sends its expert on to previews and saves, so starting
+// pages only while those are few keeps their line short, and the waiting
+// falls on page loads instead. After fastRun previews and saves have
+// started while a page waited, the page starts at the next free turn
+// whatever else is waiting.
 type turns struct {
 	mu          sync.Mutex
 	free        int
