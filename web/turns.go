@@ -35,10 +35,10 @@ const fastRun = 16
 
 // turns admits at most n handlers at once. A preview or save starts
 // whenever a turn is free. A page starts only when no preview or save is
-// waiting, fewer than n−1 are running or away at the database, no other
-// page has finished within pageSettle (unless a preview or save has
-// started since), and fewer than n−1 pages (but at least one) run at
-// once. A page sends its expert on to previews and saves, so starting
+// waiting, fewer than m = max(1, n−1) are running or away at the
+// database, no other page has finished within pageSettle (unless a
+// preview or save has started since), and fewer than m pages are
+// running. A page sends its expert on to previews and saves, so starting
 // pages only while those are few keeps their line short, and the waiting
 // falls on page loads instead. After fastRun previews and saves have
 // started while a page waited, the page starts at the next free turn
