@@ -658,7 +658,12 @@ func problemSummary(af answerForm, f *Form) string {
 // expert as one interval.
 func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView) {
 	fb, err := s.feedbackFor(r, sc)
-	if err != nil || fb == nil {
+	if err != nil {
+		// The page is still useful without the panel; the cause is logged.
+		s.log.ErrorContext(r.Context(), "round feedback", "question", sc.question.ID, "err", err)
+		return nil, nil
+	}
+	if fb == nil {
 		return nil, nil
 	}
 	q := sc.question
