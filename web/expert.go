@@ -66,6 +66,8 @@ type expertQuestionView struct {
 	Spread   *chart.SpreadView // instead of Panel when the panel is large
 	// FeedbackRound is the round whose close the panel shows.
 	FeedbackRound int
+	// PanelMissing is set when the panel could not be read.
+	PanelMissing bool
 }
 
 type expertQuestionInfo struct {
@@ -549,7 +551,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
 	if v.FeedbackRound = sc.workshop.FeedbackRound(); v.FeedbackRound > 0 {
-		v.Panel, v.Spread = s.anonymousPanel(r, sc)
+		v.Panel, v.Spread, v.PanelMissing = s.anonymousPanel(r, sc)
 	}
 	return v
 }
@@ -656,15 +658,16 @@ func problemSummary(af answerForm, f *Form) string {
 // whole panel at that close. Beyond overlayLimit other experts it
 // returns a spread instead: the own curve and the pool, with each other
 // expert as one interval.
-func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView) {
+func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView, bool) {
 	fb, err := s.feedbackFor(r, sc)
 	if err != nil {
-		// The page is still useful without the panel; the cause is logged.
+		// The page is still useful without the panel; it says so, and the
+		// cause is logged.
 		s.log.ErrorContext(r.Context(), "round feedback", "question", sc.question.ID, "err", err)
-		return nil, nil
+		return nil, nil, true
 	}
 	if fb == nil {
-		return nil, nil
+		return nil, nil, false
 	}
 	q := sc.question
 	var own *elicit.ScaledBeta
@@ -681,7 +684,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 		}
 	}
 	if len(others) == 0 {
-		return nil, nil
+		return nil, nil, false
 	}
 	var curves []chart.Curve
 	if own != nil {
@@ -692,7 +695,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 		if fb.poolErr == nil {
 			curves = append(curves, poolCurve(fb.pool))
 		}
-		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: others}
+		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: others}, false
 	}
 	for i, d := range others {
 		curves = append(curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: d})
@@ -700,7 +703,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
 	}
-	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil
+	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil, false
 }
 
 // feedback is what every expert's page of a question shares through a

@@ -3,7 +3,11 @@ package web
 import (
 	"bytes"
 	"context"
+	"errors"
+	"io"
+	"log/slog"
 	"net/http"
+	"net/http/httptest"
 	"reflect"
 	"slices"
 	"sort"
@@ -12,6 +16,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -275,5 +280,49 @@ func TestPanelOrderNeedsTheSalt(t *testing.T) {
 	}
 	if panelOrder(a, 9, 1) == panelOrder(a, 10, 1) {
 		t.Error("the order does not change from question to question")
+	}
+}
+
+// failingFeedback is the store with the round feedback's read failing.
+type failingFeedback struct{ *store.DB }
+
+func (failingFeedback) LatestRevisions(context.Context, int64, int) ([]elicit.Revision, error) {
+	return nil, errors.New("disk unreadable (test)")
+}
+
+// When the panel cannot be read, the round-2 page still shows the form
+// and says the panel is missing, instead of silently leaving it out.
+func TestPanelReadFailureIsSaid(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	for i, vals := range [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}} {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(vals...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save: %d", resp.StatusCode)
+		}
+	}
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	s, err := New(failingFeedback{g.db}, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
+	if err != nil {
+		t.Fatal(err)
+	}
+	srv := httptest.NewServer(s.Handler())
+	defer srv.Close()
+	res, err := http.Get(srv.URL + g.qpath(0, g.q))
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := io.ReadAll(res.Body)
+	res.Body.Close()
+	page := string(b)
+	if res.StatusCode != http.StatusOK || !strings.Contains(page, "could not be read just now") || strings.Contains(page, "What the other experts said") {
+		t.Errorf("status %d; page should keep the form and say the panel is missing", res.StatusCode)
+	}
+	if !strings.Contains(page, `name="values[1]"`) {
+		t.Error("the form is missing")
 	}
 }
