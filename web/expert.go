@@ -782,13 +782,13 @@ func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedba
 		m   feedbackMember
 	}
 	var ks []keyed
-	var dists []elicit.ScaledBeta
+	var panel []elicit.PanelFit
 	for _, rv := range revs {
 		fit, err := fits.fit(q, rv)
 		if err != nil {
 			continue
 		}
-		dists = append(dists, fit.Dist)
+		panel = append(panel, elicit.PanelFit{ExpertID: rv.ExpertID, Dist: &fit.Dist})
 		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), feedbackMember{rv.ExpertID, fit.Dist}})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
@@ -796,15 +796,11 @@ func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedba
 	for _, k := range ks {
 		fb.members = append(fb.members, k.m)
 	}
-	if len(dists) == 0 {
-		fb.poolErr = errNoFits
-		return fb
-	}
-	fb.pool, fb.poolErr = elicit.LinearPool(dists, nil)
+	// The same pooling rule as the facilitator's panel, with equal weights.
+	pp, err := elicit.PoolPanel(panel, elicit.Weights{Scheme: elicit.WeightsEqual})
+	fb.pool, fb.poolErr = pp.Pool, err
 	return fb
 }
-
-var errNoFits = errors.New("no fitted judgement to pool")
 
 // panelOrder is an expert's sort key in a question's anonymised feedback:
 // HMAC-SHA-256 under the workshop's secret panel salt of the question's
