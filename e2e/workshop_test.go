@@ -207,10 +207,24 @@ func TestWorkshopInBrowser(t *testing.T) {
 	rationale := "The panel accepts the pool: the two experts' medians differ, and the pool keeps both views (invented)."
 	fac.do("choose the pool's Beta", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=pool]`)))
 	fac.fill(agree, "rationale", rationale)
+	// Round 2 is still open: the prior is refused until the facilitator
+	// confirms it, and then the record says so.
+	if st := fac.load("agree while the round is open", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("agreeing while the round is open, unconfirmed: status %d, want 422", st)
+	}
+	fac.sees("open-round confirmation", "Round 2 is still open, so experts can still change their answers")
+	if ps := agreedPriors(t, site); len(ps) != 0 {
+		t.Fatalf("an unconfirmed agreement was saved: %+v", ps)
+	}
+	fac.do("confirm the open round", chromedp.Click(chromedp.CSS(agree+` input[name=confirm_open]`)))
 	if st := fac.load("record the agreed prior", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusOK {
 		t.Fatalf("record the agreed prior: status %d\n%s", st, clip(fac.text(), 2000))
 	}
-	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2")
+	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2",
+		"agreed while round 2 was still open")
+	if ps := agreedPriors(t, site); len(ps) != 1 || !ps[0].RoundOpen {
+		t.Fatalf("the prior agreed while the round was open is not marked so: %+v", ps)
+	}
 
 	// Question 2: the panel agrees a consensus judgement in discussion.
 	// Values that go down are refused beside the field, nothing saved.
@@ -240,6 +254,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	fac.do("choose the consensus", chromedp.Click(chromedp.CSS(agree+` input[name=source][value=consensus]`)))
 	consensus("0.55", "0.68", "0.78")
 	fac.fill(agree, "rationale", "The group agreed these quartiles after the discussion (invented).")
+	fac.do("confirm the open round", chromedp.Click(chromedp.CSS(agree+` input[name=confirm_open]`)))
 	if st := fac.load("agree the consensus", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusOK {
 		t.Fatalf("agree the consensus: status %d\n%s", st, clip(fac.text(), 2000))
 	}

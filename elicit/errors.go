@@ -54,4 +54,12 @@ func inputErr(field string, rule Rule, format string, args ...any) *InputError {
 var (
 	ErrNotFound    = errors.New("not found")
 	ErrRoundClosed = errors.New("the round is closed")
+	// ErrAnswersFrozen is returned when an answer is saved to a
+	// calibration question whose true value has been revealed.
+	ErrAnswersFrozen = errors.New("the true value has been revealed, so the answers to this question are final")
+	// ErrRoundStillOpen is returned when a prior is agreed while the
+	// round is open and the facilitator has not confirmed it.
+	ErrRoundStillOpen = errors.New("the round is still open, so answers may still change")
+	// ErrRetired is returned when an answer is saved to a retired question.
+	ErrRetired = errors.New("the question has been retired")
 )

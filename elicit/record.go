@@ -616,6 +616,12 @@ func checkQuestion(p string, q Question) error {
 	if q.TrueValue != nil && !q.Calibration {
 		return inputErr(p+".true_value", RuleUnknown, "only a calibration question has a true value")
 	}
+	if q.RevealedThrough < 0 {
+		return inputErr(p+".revealed_through", RuleNonNegative, "got %d", q.RevealedThrough)
+	}
+	if (q.RevealedAt != nil || q.RevealedThrough > 0) && !q.Frozen() {
+		return inputErr(p+".revealed_at", RuleUnknown, "only a calibration question whose true value is revealed has a reveal")
+	}
 	return under(p, q.Validate())
 }
 
@@ -714,10 +720,10 @@ func checkText(field, s string, required bool, max int) error {
 }
 
 func knownEvent(k EventKind) bool {
-	switch k {
-	case EventWorkshopCreated, EventRoundClosed, EventRoundOpened, EventWeightsSet, EventPriorAgreed,
-		EventTruthRevealed, EventExpertAdded, EventExpertRevoked, EventTokenReissued, EventQuestionAdded:
-		return true
+	for _, known := range EventKinds {
+		if k == known {
+			return true
+		}
 	}
 	return false
 }

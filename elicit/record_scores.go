@@ -62,9 +62,37 @@ func latestRevisions(revisions []Revision) map[[2]int64]Revision {
 	return m
 }
 
+// answersAtReveal maps (question, expert) to the answer the scores use:
+// the expert's latest revision, except that on a calibration question
+// whose true value has been revealed it is the latest saved by the
+// reveal (ID at most RevealedThrough), so that nothing saved after the
+// truth was shown can earn weight.
+func answersAtReveal(questions []Question, revisions []Revision) map[[2]int64]Revision {
+	through := map[int64]int64{}
+	for _, q := range questions {
+		if q.Frozen() && q.RevealedThrough > 0 {
+			through[q.ID] = q.RevealedThrough
+		}
+	}
+	m := make(map[[2]int64]Revision, len(revisions))
+	for _, rv := range revisions {
+		if t, ok := through[rv.QuestionID]; ok && rv.ID > t {
+			continue
+		}
+		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
+	}
+	return m
+}
+
+// AnswersRule says which answers the classical model scores; the record
+// states it beside the scores.
+const AnswersRule = "each active expert's latest answer to each calibration question; once a question's true value " +
+	"has been revealed its answers are frozen, and the answer scored is the one that stood at the reveal"
+
 // NewCalibrationSet gathers the classical model's input from a workshop's
-// questions, experts and revisions (oldest first). Revoked experts are left
-// out, as they are from the pool. With revealedOnly, a true value counts
+// questions, experts and revisions (oldest first): the answers of
+// AnswersRule. Revoked experts are left out, as they are from the pool, and
+// retired questions are skipped. With revealedOnly, a true value counts
 // only once revealed, so a record never scores against a hidden truth.
 func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revision, revealedOnly bool) CalibrationSet {
 	set := CalibrationSet{Answered: map[int64][]Expert{}, Realisations: map[string]float64{}, Bounds: map[string][2]float64{}}
@@ -76,9 +104,13 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 	qs := append([]Question(nil), questions...)
 	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
 	set.Probs = commonProbs(qs)
-	latest := latestRevisions(revisions)
+	latest := answersAtReveal(qs, revisions)
 	for _, q := range qs {
 		if !q.Calibration {
+			continue
+		}
+		if q.Retired {
+			set.skip(q, "retired by the facilitator")
 			continue
 		}
 		for _, e := range set.Experts {
@@ -126,12 +158,12 @@ func commonProbs(qs []Question) []float64 {
 	var best []float64
 	bestN := 0
 	for i, q := range qs {
-		if !q.Calibration || q.Format != FormatQuantiles {
+		if !q.Calibration || q.Retired || q.Format != FormatQuantiles {
 			continue
 		}
 		n := 0
 		for _, o := range qs[i:] {
-			if o.Calibration && o.Format == FormatQuantiles && sameFloats(o.Probs, q.Probs) {
+			if o.Calibration && !o.Retired && o.Format == FormatQuantiles && sameFloats(o.Probs, q.Probs) {
 				n++
 			}
 		}
@@ -175,10 +207,12 @@ type Performance struct {
 	AlphaRule string    `json:"alpha_rule"`
 	Probs     []float64 `json:"probs"`
 	// Questions are the IDs of the scored calibration questions.
-	Questions []int64             `json:"calibration_questions"`
-	Skipped   []SkippedQuestion   `json:"skipped"`
-	Experts   []PerformanceExpert `json:"experts"`
-	Pooled    PooledScore         `json:"pooled"`
+	Questions []int64           `json:"calibration_questions"`
+	Skipped   []SkippedQuestion `json:"skipped"`
+	// Answers states which answers were scored (AnswersRule).
+	Answers string              `json:"answers"`
+	Experts []PerformanceExpert `json:"experts"`
+	Pooled  PooledScore         `json:"pooled"`
 	// InForce reports whether the workshop's current pool weights are
 	// these performance weights.
 	InForce bool `json:"in_force"`
@@ -216,7 +250,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 		return Performance{}, err
 	}
 	p := Performance{Alpha: sc.Alpha, AlphaRule: AlphaOptimised, Probs: set.Probs, Skipped: set.Skipped,
-		Questions: make([]int64, len(set.Questions)), Pooled: sc.Pooled}
+		Questions: make([]int64, len(set.Questions)), Pooled: sc.Pooled, Answers: AnswersRule}
 	if alpha != nil {
 		p.AlphaRule = AlphaFixed
 	}
@@ -345,7 +379,7 @@ func fitTargets(questions []Question, experts []Expert, revisions []Revision) []
 	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
 	var out []targetFits
 	for _, q := range qs {
-		if q.Calibration {
+		if q.Calibration || q.Retired {
 			continue
 		}
 		t := targetFits{q: q}

@@ -392,3 +392,94 @@ func TestPerformanceRobustness(t *testing.T) {
 		t.Fatalf("record lacks the robustness table: %+v", rec.Performance)
 	}
 }
+
+// Answers saved to a calibration question after its reveal never reach
+// the scores: the set takes each expert's latest answer with an ID of at
+// most the question's RevealedThrough. Expert B "corrects" seed 1 to a
+// tight interval around its true value 0.30 after the reveal (the gaming
+// this rule exists to stop); the scores must be those of B's answer at the
+// reveal.
+func TestCalibrationSetUsesAnswersAtReveal(t *testing.T) {
+	src := seedWorkshop(true)
+	before := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	perfBefore, err := ScorePerformance(before, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := src.Revisions[len(src.Revisions)-1].ID
+	for i := range src.Questions {
+		if src.Questions[i].Calibration {
+			src.Questions[i].RevealedThrough = last
+		}
+	}
+	src.Revisions = append(src.Revisions, Revision{ID: last + 1, QuestionID: 102, ExpertID: 2, Round: 1, At: t0,
+		Answer: Answer{Values: []float64{0.29, 0.30, 0.31}}})
+	after := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	for _, a := range after.Assessments {
+		if a.Expert == SeedExpertKey(2) && a.Question == SeedQuestionKey(102) && a.Quantiles[1] != 0.62 {
+			t.Fatalf("B's seed-1 answer scored is %v, want the one standing at the reveal (0.60, 0.62, 0.64)", a.Quantiles)
+		}
+	}
+	perfAfter, err := ScorePerformance(after, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !sameScores(perfBefore, perfAfter) {
+		t.Fatalf("a save after the reveal changed the scores: %+v → %+v", perfBefore.Experts, perfAfter.Experts)
+	}
+	if perfAfter.Answers != AnswersRule {
+		t.Errorf("the performance record does not state which answers it scored: %q", perfAfter.Answers)
+	}
+	// Without the freeze (a question not yet revealed), the later answer
+	// would count: the test above is not vacuous.
+	for i := range src.Questions {
+		src.Questions[i].RevealedThrough = 0
+	}
+	open := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	perfOpen, err := ScorePerformance(open, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if sameScores(perfBefore, perfOpen) {
+		t.Fatal("the post-reveal answer does not change the scores even unfrozen; the test proves nothing")
+	}
+}
+
+// sameScores reports whether a and b give every expert the same
+// calibration and information scores and weight.
+func sameScores(a, b Performance) bool {
+	if len(a.Experts) != len(b.Experts) {
+		return false
+	}
+	for i := range a.Experts {
+		x, y := a.Experts[i], b.Experts[i]
+		if x.ExpertID != y.ExpertID || x.Calibration != y.Calibration || x.Information != y.Information || x.Weight != y.Weight {
+			return false
+		}
+	}
+	return true
+}
+
+// A retired calibration question is skipped with its reason, and a
+// retired target question is not pooled.
+func TestRetiredQuestionsLeaveTheScores(t *testing.T) {
+	src := seedWorkshop(true)
+	for i := range src.Questions {
+		if src.Questions[i].ID == 104 {
+			src.Questions[i].Retired = true
+		}
+	}
+	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	if len(set.Questions) != 2 {
+		t.Fatalf("scored %d calibration questions, want 2 with seed 3 retired", len(set.Questions))
+	}
+	found := false
+	for _, s := range set.Skipped {
+		if s.ID == 104 && strings.Contains(s.Reason, "retired") {
+			found = true
+		}
+	}
+	if !found {
+		t.Fatalf("the retired question is not listed as skipped: %+v", set.Skipped)
+	}
+}

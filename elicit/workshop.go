@@ -21,14 +21,17 @@ const (
 // Workshop is one elicitation exercise: a panel of experts answering a set
 // of questions over one or more Delphi rounds.
 type Workshop struct {
-	ID       int64     `json:"id"`
-	Title    string    `json:"title"`
-	Purpose  string    `json:"purpose"`
-	Decision string    `json:"decision"` // the decision the prior feeds
-	Notes    string    `json:"notes"`    // facilitator's notes, not shown to experts
-	Round    int       `json:"round"`    // current round, from 1
-	Open     bool      `json:"round_open"`
-	Invented bool      `json:"invented"` // demo data of an invented scenario
+	ID       int64  `json:"id"`
+	Title    string `json:"title"`
+	Purpose  string `json:"purpose"`
+	Decision string `json:"decision"` // the decision the prior feeds
+	Notes    string `json:"notes"`    // facilitator's notes, not shown to experts
+	Round    int    `json:"round"`    // current round, from 1
+	Open     bool   `json:"round_open"`
+	Invented bool   `json:"invented"` // demo data of an invented scenario
+	// Archived marks a finished workshop: listed apart, its round closed,
+	// no answers taken until it is brought back.
+	Archived bool      `json:"archived,omitempty"`
 	Created  time.Time `json:"created"`
 }
 
@@ -54,7 +57,21 @@ type Question struct {
 	Calibration bool     `json:"calibration"`
 	TrueValue   *float64 `json:"true_value,omitempty"`
 	Revealed    bool     `json:"revealed"`
+	// RevealedAt is when the true value was first revealed. The reveal
+	// freezes the answers: no expert may save to the question afterwards,
+	// and the scores use each expert's latest revision with an ID of at
+	// most RevealedThrough, the question's last revision at the reveal
+	// (0 when the reveal predates this rule and nothing is known).
+	RevealedAt      *time.Time `json:"revealed_at,omitempty"`
+	RevealedThrough int64      `json:"revealed_through,omitempty"`
+	// Retired questions are hidden from experts and left out of pools and
+	// scores, but kept in the record.
+	Retired bool `json:"retired,omitempty"`
 }
+
+// Frozen reports whether the question takes no more answers: a
+// calibration question whose true value has been revealed.
+func (q Question) Frozen() bool { return q.Calibration && q.Revealed }
 
 // Expert is a panel member. Access tokens are a storage concern and are
 // not part of this type.
@@ -93,6 +110,10 @@ type Revision struct {
 	At         time.Time `json:"at"`
 	Reason     string    `json:"reason,omitempty"`
 	Answer     Answer    `json:"answer"`
+	// ReasonWithheld is set when the facilitator has withheld the reason
+	// from the round feedback: it stays in the record but no expert and no
+	// room view is shown it.
+	ReasonWithheld bool `json:"reason_withheld,omitempty"`
 }
 
 // EventKind names a facilitator decision.
@@ -110,7 +131,24 @@ const (
 	EventExpertRevoked   EventKind = "expert_revoked"
 	EventTokenReissued   EventKind = "token_reissued"
 	EventQuestionAdded   EventKind = "question_added"
+	// Corrections, each with the facilitator's reason.
+	EventQuestionEdited   EventKind = "question_edited"   // detail: the fields before and after
+	EventQuestionRetired  EventKind = "question_retired"  // hidden from experts, kept in the record
+	EventQuestionRestored EventKind = "question_restored" // a retired question brought back
+	EventRoundReopened    EventKind = "round_reopened"    // the last closed round opened again
+	EventWorkshopArchived EventKind = "workshop_archived"
+	EventWorkshopRestored EventKind = "workshop_restored" // an archived workshop brought back
+	EventReasonWithheld   EventKind = "reason_withheld"   // a revision's reason kept from the feedback
+	EventReasonReleased   EventKind = "reason_released"   // a withheld reason shown again
 )
+
+// EventKinds lists every event kind, in the order they were introduced.
+var EventKinds = []EventKind{
+	EventWorkshopCreated, EventRoundClosed, EventRoundOpened, EventWeightsSet, EventPriorAgreed,
+	EventTruthRevealed, EventExpertAdded, EventExpertRevoked, EventTokenReissued, EventQuestionAdded,
+	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
+	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
+}
 
 // Event is one facilitator decision with its time and reason. Detail holds
 // the decision's data as JSON (weights, the agreed Beta, ...).
@@ -174,5 +212,9 @@ type AgreedPrior struct {
 	Consensus  *Answer     `json:"consensus,omitempty"`
 	Rationale  string      `json:"rationale"`
 	Round      int         `json:"round"`
-	At         time.Time   `json:"at"`
+	// RoundOpen is set when the prior was agreed while its round was
+	// still open, after the facilitator confirmed it: answers could still
+	// change after the agreement.
+	RoundOpen bool      `json:"while_round_open,omitempty"`
+	At        time.Time `json:"at"`
 }

@@ -106,5 +106,9 @@ func copyQuestion(q elicit.Question) elicit.Question {
 		v := *q.TrueValue
 		q.TrueValue = &v
 	}
+	if q.RevealedAt != nil {
+		t := *q.RevealedAt
+		q.RevealedAt = &t
+	}
 	return q
 }

@@ -125,7 +125,10 @@ func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weig
 
 // AgreePrior records the prior the panel agreed for a question, in the
 // workshop's current round, with EventPriorAgreed, in one transaction. It
-// sets p's ID, Round and At.
+// sets p's ID, Round and At. While the round is open, answers can still
+// change after the agreement, so the caller must say it knows
+// (p.RoundOpen); otherwise the prior is refused with an error wrapping
+// elicit.ErrRoundStillOpen. p.RoundOpen is stored as the round's real state.
 func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 	if err := p.Dist.Validate(); err != nil {
 		return err
@@ -144,33 +147,38 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 		var (
 			workshopID int64
 			round      int
+			open       int
 		)
 		err := tx.QueryRowContext(ctx,
-			`SELECT w.id, w.round FROM questions q JOIN workshops w ON w.id = q.workshop_id WHERE q.id = ?`,
-			p.QuestionID).Scan(&workshopID, &round)
+			`SELECT w.id, w.round, w.round_open FROM questions q JOIN workshops w ON w.id = q.workshop_id WHERE q.id = ?`,
+			p.QuestionID).Scan(&workshopID, &round, &open)
 		if errors.Is(err, sql.ErrNoRows) {
 			return notFound("question", p.QuestionID)
 		}
 		if err != nil {
 			return fmt.Errorf("store: agree prior: %w", err)
 		}
+		if open == 1 && !p.RoundOpen {
+			return fmt.Errorf("store: agree prior in round %d: %w", round, elicit.ErrRoundStillOpen)
+		}
 		stored := *p
-		stored.Round, stored.At = round, at
+		stored.Round, stored.At, stored.RoundOpen = round, at, open == 1
 		id, err := insertPrior(ctx, tx, stored, consensus)
 		if err != nil {
 			return err
 		}
 		detail, _ := json.Marshal(struct {
-			Source elicit.PriorSource `json:"source"`
-			Dist   elicit.ScaledBeta  `json:"dist"`
-		}{p.Source, p.Dist})
+			Source    elicit.PriorSource `json:"source"`
+			Dist      elicit.ScaledBeta  `json:"dist"`
+			RoundOpen bool               `json:"while_round_open,omitempty"`
+		}{p.Source, p.Dist, stored.RoundOpen})
 		if err := insertEvent(ctx, tx, elicit.Event{
 			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: elicit.EventPriorAgreed,
 			At: at, Reason: p.Rationale, Detail: string(detail),
 		}); err != nil {
 			return err
 		}
-		p.ID, p.Round, p.At = id, round, at
+		p.ID, p.Round, p.At, p.RoundOpen = id, round, at, stored.RoundOpen
 		return nil
 	})
 }
@@ -188,10 +196,10 @@ func marshalConsensus(a *elicit.Answer) (any, error) {
 
 func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensus any) (int64, error) {
 	res, err := tx.ExecContext(ctx,
-		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, at)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, at)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
-		consensus, p.Rationale, p.Round, formatTime(p.At))
+		consensus, p.Rationale, p.Round, boolInt(p.RoundOpen), formatTime(p.At))
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
 	}
@@ -211,7 +219,7 @@ func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.Agre
 func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.AgreedPrior, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
-		        p.rationale, p.round, p.at
+		        p.rationale, p.round, p.round_open, p.at
 		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id
 		 WHERE q.workshop_id = ? ORDER BY p.id`, workshopID)
 	if err != nil {
@@ -224,12 +232,14 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.Agr
 			p          elicit.AgreedPrior
 			source, at string
 			consensus  sql.NullString
+			roundOpen  int
 		)
 		if err := rows.Scan(&p.ID, &p.QuestionID, &source, &p.Dist.Alpha, &p.Dist.Beta.Beta,
-			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &at); err != nil {
+			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &at); err != nil {
 			return nil, fmt.Errorf("store: read agreed prior: %w", err)
 		}
 		p.Source = elicit.PriorSource(source)
+		p.RoundOpen = roundOpen == 1
 		if consensus.Valid {
 			p.Consensus = new(elicit.Answer)
 			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {

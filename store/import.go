@@ -24,7 +24,7 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 	}
 	var workshopID int64
 	err := db.write(ctx, func(tx *sql.Tx) error {
-		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}}
+		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{}}
 		var err error
 		if workshopID, err = imp.workshop(rec.Workshop); err != nil {
 			return err
@@ -44,6 +44,11 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 				return err
 			}
 		}
+		for _, q := range rec.Questions {
+			if err := imp.frozenThrough(q.Question, rec.Revisions); err != nil {
+				return err
+			}
+		}
 		if err := imp.weights(workshopID, rec.Weights); err != nil {
 			return err
 		}
@@ -56,7 +61,7 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 		}
 		for _, e := range rec.Events {
 			e.WorkshopID, e.QuestionID = workshopID, imp.questions[e.QuestionID]
-			e.Detail = remapDetail(e.Detail, imp.experts)
+			e.Detail = remapDetail(e.Detail, imp.experts, imp.revisions)
 			if err := insertEvent(ctx, tx, e); err != nil {
 				return err
 			}
@@ -75,6 +80,7 @@ type importer struct {
 	tx        *sql.Tx
 	questions map[int64]int64
 	experts   map[int64]int64
+	revisions map[int64]int64
 }
 
 func (imp importer) insert(query string, args ...any) (int64, error) {
@@ -87,9 +93,9 @@ func (imp importer) insert(query string, args ...any) (int64, error) {
 
 func (imp importer) workshop(w elicit.Workshop) (int64, error) {
 	return imp.insert(
-		`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, created)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?)`,
-		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), formatTime(w.Created))
+		`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, archived, created)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), boolInt(w.Archived), formatTime(w.Created))
 }
 
 func (imp importer) question(workshopID int64, q elicit.Question) error {
@@ -103,10 +109,11 @@ func (imp importer) question(workshopID int64, q elicit.Question) error {
 	}
 	id, err := imp.insert(
 		`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
-		 probs, bin_edges, chips, calibration, true_value, revealed)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, retired)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		workshopID, q.Position, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
-		probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed))
+		probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed),
+		nullTime(q.RevealedAt), boolInt(q.Retired))
 	if err != nil {
 		return fmt.Errorf("question %d: %w", q.ID, err)
 	}
@@ -136,8 +143,36 @@ func (imp importer) revision(rv elicit.Revision) error {
 		return err
 	}
 	rv.QuestionID, rv.ExpertID = imp.questions[rv.QuestionID], imp.experts[rv.ExpertID]
-	if _, err := insertRevision(imp.ctx, imp.tx, rv, values, counts); err != nil {
+	id, err := insertRevision(imp.ctx, imp.tx, rv, values, counts)
+	if err != nil {
 		return fmt.Errorf("revision %d: %w", rv.ID, err)
+	}
+	imp.revisions[rv.ID] = id
+	if rv.ReasonWithheld {
+		if _, err := imp.insert(`INSERT INTO reason_decisions (revision_id, withheld, reason, at) VALUES (?, 1, ?, ?)`,
+			id, "withheld in the imported record", formatTime(rv.At)); err != nil {
+			return fmt.Errorf("revision %d: %w", rv.ID, err)
+		}
+	}
+	return nil
+}
+
+// frozenThrough carries a revealed question's freeze over to the new IDs:
+// the last imported revision of the question whose old ID was at most the
+// old RevealedThrough.
+func (imp importer) frozenThrough(q elicit.Question, revs []elicit.RecordRevision) error {
+	if q.RevealedThrough == 0 {
+		return nil
+	}
+	var through int64
+	for _, rv := range revs {
+		if rv.QuestionID == q.ID && rv.ID <= q.RevealedThrough {
+			through = max(through, imp.revisions[rv.ID])
+		}
+	}
+	_, err := imp.tx.ExecContext(imp.ctx, `UPDATE questions SET revealed_through = ? WHERE id = ?`, through, imp.questions[q.ID])
+	if err != nil {
+		return fmt.Errorf("question %d: %w", q.ID, err)
 	}
 	return nil
 }
@@ -176,20 +211,25 @@ func (imp importer) prior(ap elicit.AgreedPrior) error {
 	return nil
 }
 
-// remapDetail rewrites the expert IDs in an event's detail: an
-// "expert_id" number and the keys of a "by_expert" object. A detail whose
-// IDs do not change, or that is not a JSON object, is kept byte for byte.
-func remapDetail(detail string, experts map[int64]int64) string {
+// remapDetail rewrites the expert and revision IDs in an event's detail:
+// an "expert_id" or "revision_id" number and the keys of a "by_expert"
+// object. A detail whose IDs do not change, or that is not a JSON object,
+// is kept byte for byte.
+func remapDetail(detail string, experts, revisions map[int64]int64) string {
 	var m map[string]json.RawMessage
 	if detail == "" || json.Unmarshal([]byte(detail), &m) != nil {
 		return detail
 	}
 	changed := false
-	if raw, ok := m["expert_id"]; ok {
+	for key, ids := range map[string]map[int64]int64{"expert_id": experts, "revision_id": revisions} {
+		raw, ok := m[key]
+		if !ok {
+			continue
+		}
 		var id int64
 		if json.Unmarshal(raw, &id) == nil {
-			if n, ok := experts[id]; ok && n != id {
-				m["expert_id"] = json.RawMessage(strconv.FormatInt(n, 10))
+			if n, ok := ids[id]; ok && n != id {
+				m[key] = json.RawMessage(strconv.FormatInt(n, 10))
 				changed = true
 			}
 		}

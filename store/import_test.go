@@ -39,9 +39,9 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1}}))
 	consensus := quantileAnswer(0.33)
 	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool"}))
+		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true}))
 	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromConsensus,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed"}))
+		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed", RoundOpen: true}))
 	return p
 }
 
@@ -168,8 +168,11 @@ func TestImportInvalidWritesNothing(t *testing.T) {
 
 func TestRemapDetail(t *testing.T) {
 	m := map[int64]int64{3: 30, 4: 4}
+	revs := map[int64]int64{3: 7, 9: 90}
 	tests := []struct{ in, want string }{
 		{`{"expert_id":3}`, `{"expert_id":30}`},
+		{`{"revision_id":9}`, `{"revision_id":90}`},
+		{`{"expert_id":3,"revision_id":3}`, `{"expert_id":30,"revision_id":7}`},
 		{`{"expert_id":4}`, `{"expert_id":4}`},
 		{`{"scheme":"custom","by_expert":{"3":2,"4":1}}`, `{"by_expert":{"30":2,"4":1},"scheme":"custom"}`},
 		{`{"round":2}`, `{"round":2}`},
@@ -177,7 +180,7 @@ func TestRemapDetail(t *testing.T) {
 		{``, ``},
 	}
 	for _, tt := range tests {
-		if got := remapDetail(tt.in, m); got != tt.want {
+		if got := remapDetail(tt.in, m, revs); got != tt.want {
 			t.Errorf("remapDetail(%s) = %s, want %s", tt.in, got, tt.want)
 		}
 	}

@@ -7,12 +7,13 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
 
 const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
-	probs, bin_edges, chips, calibration, true_value, revealed`
+	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired`
 
 // AddQuestion appends q to its workshop's questions, recording
 // EventQuestionAdded. It sets q's ID and Position.
@@ -96,7 +97,10 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]elicit.
 
 // SetTrueValue stores a calibration question's true value; with reveal it
 // also makes the value visible to experts and records EventTruthRevealed.
-// A revealed value stays revealed.
+// A revealed value stays revealed. The first reveal freezes the answers:
+// it stores its time and the question's last revision id, and from then
+// on SaveRevision refuses the question (elicit.ErrAnswersFrozen). Saves
+// and the reveal go through the one writer, so no save slips in between.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
 	if math.IsNaN(value) || math.IsInf(value, 0) {
 		return &elicit.InputError{Field: "true_value", Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", value)}
@@ -126,23 +130,33 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 		if !reveal {
 			return nil
 		}
+		at := now()
+		if !q.Revealed {
+			if _, err := tx.ExecContext(ctx,
+				`UPDATE questions SET revealed_at = ?,
+				 revealed_through = COALESCE((SELECT MAX(id) FROM revisions WHERE question_id = ?), 0)
+				 WHERE id = ?`, formatTime(at), questionID, questionID); err != nil {
+				return fmt.Errorf("store: reveal: %w", err)
+			}
+		}
 		detail, _ := json.Marshal(map[string]float64{"true_value": value})
 		return insertEvent(ctx, tx, elicit.Event{
 			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: elicit.EventTruthRevealed,
-			At: now(), Reason: reason, Detail: string(detail),
+			At: at, Reason: reason, Detail: string(detail),
 		})
 	})
 }
 
 func scanQuestion(s scanner) (elicit.Question, error) {
 	var (
-		q                    elicit.Question
-		format, probs, edges string
-		calib, revealed      int
-		truth                sql.NullFloat64
+		q                        elicit.Question
+		format, probs, edges     string
+		calib, revealed, retired int
+		truth                    sql.NullFloat64
+		revealedAt               sql.NullString
 	)
 	err := s.Scan(&q.ID, &q.WorkshopID, &q.Position, &q.Wording, &q.Quantity, &q.Units, &q.Lower, &q.Upper,
-		&format, &probs, &edges, &q.Chips, &calib, &truth, &revealed)
+		&format, &probs, &edges, &q.Chips, &calib, &truth, &revealed, &revealedAt, &q.RevealedThrough, &retired)
 	if errors.Is(err, sql.ErrNoRows) {
 		return q, err
 	}
@@ -150,7 +164,14 @@ func scanQuestion(s scanner) (elicit.Question, error) {
 		return q, fmt.Errorf("store: read question: %w", err)
 	}
 	q.Format = elicit.AnswerFormat(format)
-	q.Calibration, q.Revealed = calib == 1, revealed == 1
+	q.Calibration, q.Revealed, q.Retired = calib == 1, revealed == 1, retired == 1
+	if revealedAt.Valid {
+		t, err := parseTime(revealedAt.String)
+		if err != nil {
+			return q, err
+		}
+		q.RevealedAt = &t
+	}
 	if truth.Valid {
 		v := truth.Float64
 		q.TrueValue = &v
@@ -170,6 +191,13 @@ func workshopExists(ctx context.Context, tx *sql.Tx, id int64) error {
 		return notFound("workshop", id)
 	}
 	return nil
+}
+
+func nullTime(t *time.Time) any {
+	if t == nil {
+		return nil
+	}
+	return formatTime(*t)
 }
 
 func nullFloat(p *float64) any {

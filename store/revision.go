@@ -10,7 +10,9 @@ import (
 )
 
 // SaveRevision appends an expert's answer to a question. In the same
-// transaction it checks that the question's workshop has an open round
+// transaction it checks that the question is not retired (elicit.ErrRetired)
+// nor a calibration question whose true value has been revealed
+// (elicit.ErrAnswersFrozen), that the question's workshop has an open round
 // (else an error wrapping elicit.ErrRoundClosed) and that the expert
 // exists, is not revoked and sits on that workshop's panel. It sets r's ID,
 // Round and At. The answer's content is elicit's to check, before saving.
@@ -26,13 +28,14 @@ func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
 	at := now()
 	return db.writeRevision(ctx, func(tx *sql.Tx) error {
 		var (
-			workshopID int64
-			round      int
-			open       int
+			workshopID            int64
+			round                 int
+			open, frozen, retired int
 		)
 		err := tx.QueryRowContext(ctx,
-			`SELECT w.id, w.round, w.round_open FROM questions q JOIN workshops w ON w.id = q.workshop_id
-			 WHERE q.id = ?`, r.QuestionID).Scan(&workshopID, &round, &open)
+			`SELECT w.id, w.round, w.round_open, q.calibration AND q.revealed, q.retired
+			 FROM questions q JOIN workshops w ON w.id = q.workshop_id
+			 WHERE q.id = ?`, r.QuestionID).Scan(&workshopID, &round, &open, &frozen, &retired)
 		if errors.Is(err, sql.ErrNoRows) {
 			return notFound("question", r.QuestionID)
 		}
@@ -57,6 +60,12 @@ func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
 		}
 		if revoked == 1 {
 			return fmt.Errorf("store: expert %d: %w", r.ExpertID, ErrRevoked)
+		}
+		if retired == 1 {
+			return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrRetired)
+		}
+		if frozen == 1 {
+			return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrAnswersFrozen)
 		}
 		if open == 0 {
 			return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, elicit.ErrRoundClosed)

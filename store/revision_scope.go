@@ -12,8 +12,11 @@ import (
 // expert opens many times a round: each reads only what the page shows,
 // through the index on (question_id, expert_id, id).
 
+// The last column is whether the facilitator's latest decision on the
+// revision's reason withholds it from the feedback (reason_decisions).
 const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
-	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts`
+	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts,
+	COALESCE((SELECT d.withheld FROM reason_decisions d WHERE d.revision_id = r.id ORDER BY d.id DESC LIMIT 1), 0)`
 
 // ExpertRevisions returns one expert's revisions on every question of
 // their workshop, oldest first.
@@ -52,11 +55,13 @@ func scanRevisions(rows *sql.Rows, err error) ([]elicit.Revision, error) {
 		var (
 			r              elicit.Revision
 			at, vs, counts string
+			withheld       int
 		)
 		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
-			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts); err != nil {
+			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts, &withheld); err != nil {
 			return nil, fmt.Errorf("store: read revision: %w", err)
 		}
+		r.ReasonWithheld = withheld == 1
 		if r.At, err = parseTime(at); err != nil {
 			return nil, err
 		}

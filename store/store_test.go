@@ -365,7 +365,7 @@ func TestAppendOnly(t *testing.T) {
 		t.Fatal(err)
 	}
 	prior := elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 7}), Rationale: "pool"}
+		Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 7}), Rationale: "pool", RoundOpen: true}
 	if err := db.AgreePrior(ctx, &prior); err != nil {
 		t.Fatal(err)
 	}
@@ -511,23 +511,50 @@ func TestAgreedPriors(t *testing.T) {
 	consensus := quantileAnswer(0.3)
 	want := []elicit.AgreedPrior{
 		{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: 4.2, Beta: 17.9}),
-			Rationale: "the pool"},
+			Rationale: "the pool", RoundOpen: true},
 		{QuestionID: p.qs[0].ID, Source: elicit.PriorFromConsensus, Dist: elicit.Unit(elicit.Beta{Alpha: 5, Beta: 12}),
 			Consensus: &consensus, Rationale: "agreed after discussion"},
 	}
+	// The round is open: a prior not confirmed as agreed while open is
+	// refused, and nothing is written.
+	if err := db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+		Dist: want[0].Dist, Rationale: "too early"}); !errors.Is(err, elicit.ErrRoundStillOpen) {
+		t.Fatalf("prior while the round is open, unconfirmed: %v, want ErrRoundStillOpen", err)
+	}
+	if got, _ := db.AgreedPriors(ctx, p.w.ID); len(got) != 0 {
+		t.Fatalf("a refused prior was stored: %+v", got)
+	}
 	for i := range want {
+		if i == 1 {
+			// Agreed after the round closed: stored as not open, whatever
+			// the caller says.
+			must(t, db.SetRound(ctx, p.w.ID, 1, false, ""))
+			want[i].RoundOpen = true
+		}
 		if err := db.AgreePrior(ctx, &want[i]); err != nil {
 			t.Fatal(err)
 		}
 	}
+	want[1].RoundOpen = false
 	got, err := db.AgreedPriors(ctx, p.w.ID)
 	if err != nil || !reflect.DeepEqual(got, want) {
 		t.Fatalf("AgreedPriors = %+v, %v\nwant %+v", got, err, want)
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
 	last := evs[len(evs)-1]
-	if last.Kind != elicit.EventPriorAgreed || last.QuestionID != p.qs[0].ID || !strings.Contains(last.Detail, `"alpha":5`) {
+	if last.Kind != elicit.EventPriorAgreed || last.QuestionID != p.qs[0].ID || !strings.Contains(last.Detail, `"alpha":5`) ||
+		strings.Contains(last.Detail, "while_round_open") {
 		t.Fatalf("prior event %+v", last)
+	}
+	var openEvent elicit.Event
+	for _, e := range evs {
+		if e.Kind == elicit.EventPriorAgreed {
+			openEvent = e
+			break
+		}
+	}
+	if !strings.Contains(openEvent.Detail, `"while_round_open":true`) {
+		t.Fatalf("the prior agreed while the round was open is not noted in its event: %+v", openEvent)
 	}
 	bad := elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: -1, Beta: 2})}
 	var ie *elicit.InputError

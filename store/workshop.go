@@ -9,7 +9,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 )
 
-const workshopColumns = `id, title, purpose, decision, notes, round, round_open, invented, created`
+const workshopColumns = `id, title, purpose, decision, notes, round, round_open, invented, archived, created`
 
 // CreateWorkshop saves a new workshop in round 1, open, and records
 // EventWorkshopCreated. It sets w's ID, Created, Round and Open.
@@ -134,17 +134,17 @@ type scanner interface{ Scan(dest ...any) error }
 
 func scanWorkshop(s scanner) (elicit.Workshop, error) {
 	var (
-		w            elicit.Workshop
-		open, invent int
-		created      string
+		w                      elicit.Workshop
+		open, invent, archived int
+		created                string
 	)
-	if err := s.Scan(&w.ID, &w.Title, &w.Purpose, &w.Decision, &w.Notes, &w.Round, &open, &invent, &created); err != nil {
+	if err := s.Scan(&w.ID, &w.Title, &w.Purpose, &w.Decision, &w.Notes, &w.Round, &open, &invent, &archived, &created); err != nil {
 		if errors.Is(err, sql.ErrNoRows) {
 			return w, err
 		}
 		return w, fmt.Errorf("store: read workshop: %w", err)
 	}
-	w.Open, w.Invented = open == 1, invent == 1
+	w.Open, w.Invented, w.Archived = open == 1, invent == 1, archived == 1
 	t, err := parseTime(created)
 	w.Created = t
 	return w, err

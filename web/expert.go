@@ -38,15 +38,17 @@ type expertHomeView struct {
 }
 
 type expertQuestionItem struct {
-	Href        string
-	Position    int
-	Wording     string
-	Quantity    string
-	Units       string
-	Calibration bool
-	Answered    bool   // has a revision in the current round
-	AnsweredAt  string // time of that revision
-	Earlier     bool   // answered only in an earlier round
+	Href     string
+	Position int
+	Wording  string
+	Quantity string
+	Units    string
+	// Revealed is set for a calibration question once its true value has
+	// been shown: its answers are then final.
+	Revealed   bool
+	Answered   bool   // has a revision in the current round
+	AnsweredAt string // time of that revision
+	Earlier    bool   // answered only in an earlier round
 }
 
 // expertQuestionView is one question's page.
@@ -68,19 +70,24 @@ type expertQuestionView struct {
 	FeedbackRound int
 	// PanelMissing is set when the panel could not be read.
 	PanelMissing bool
+	// Frozen is set once a calibration question's true value has been
+	// revealed: the expert's last answer is shown and cannot change.
+	Frozen bool
 }
 
 type expertQuestionInfo struct {
-	ID          int64
-	Position    int
-	Wording     string
-	Quantity    string
-	Units       string
-	Lower       string
-	Upper       string
-	Format      elicit.AnswerFormat
-	Calibration bool
-	Revealed    string // the true value, only once revealed
+	ID       int64
+	Position int
+	Wording  string
+	Quantity string
+	Units    string
+	Lower    string
+	Upper    string
+	Format   elicit.AnswerFormat
+	// Revealed is the true value of a calibration question, set only once
+	// the facilitator has revealed it. Until then nothing on an expert's
+	// page says which questions are calibration questions.
+	Revealed string
 }
 
 // answerForm is the judgement form in the question's format, with the
@@ -275,6 +282,10 @@ func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token"
 
 const timeLayout = "2006-01-02 15:04 UTC"
 
+// frozenMessage answers a save to a calibration question whose true value
+// has been revealed.
+const frozenMessage = "The true value of this question has been shown, so answers to it can no longer change and nothing was saved. Your last saved answer stands as it was."
+
 func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 	e := expertFrom(r.Context())
 	ws, err := s.store.Workshop(r.Context(), e.WorkshopID)
@@ -295,9 +306,12 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 	base := expertBase(r)
 	v := expertHomeView{Base: base, Expert: e.Name, Title: ws.Title, Purpose: ws.Purpose, Decision: ws.Decision, Round: ws.Round, Open: ws.Open}
 	for _, q := range qs {
+		if q.Retired {
+			continue
+		}
 		it := expertQuestionItem{
 			Href: base + "/q/" + strconv.FormatInt(q.ID, 10), Position: q.Position,
-			Wording: q.Wording, Quantity: q.Quantity, Units: q.Units, Calibration: q.Calibration,
+			Wording: q.Wording, Quantity: q.Quantity, Units: q.Units, Revealed: q.Frozen(),
 		}
 		for _, rv := range revs {
 			if rv.ExpertID != e.ID || rv.QuestionID != q.ID {
@@ -337,6 +351,9 @@ func (s *Server) loadExpertScope(r *http.Request) (expertScope, error) {
 	}
 	if sc.question.WorkshopID != sc.expert.WorkshopID {
 		return sc, elicit.ErrNotFound
+	}
+	if sc.question.Retired {
+		return sc, elicit.ErrRetired
 	}
 	if sc.workshop, err = s.store.Workshop(ctx, sc.expert.WorkshopID); err != nil {
 		return sc, err
@@ -479,16 +496,25 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		v := s.questionView(r, sc, formValues(f), f.Value("reason"))
-		applyErrors(&v.Form, f)
-		if fit == nil {
+		switch {
+		case v.Frozen:
+			// The page shows the last saved answer, not what was sent.
+		case fit == nil:
+			applyErrors(&v.Form, f)
 			v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
-		} else {
+		default:
+			applyErrors(&v.Form, f)
 			v.Preview = newPreview(sc.question, *fit)
 		}
 		if closed != "" {
 			v.Open, v.Closed = false, closed
 		}
 		s.renderQuestion(w, r, status, sc, v)
+	}
+	if sc.question.Frozen() {
+		// Whatever was sent: the answers were final at the reveal.
+		again(http.StatusConflict, frozenMessage, nil)
+		return
 	}
 	if !ok || !f.OK() {
 		again(http.StatusUnprocessableEntity, "", nil)
@@ -509,6 +535,12 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		}
 		if errors.Is(err, elicit.ErrRoundClosed) {
 			again(http.StatusConflict, closed, &fit)
+			return
+		}
+		if errors.Is(err, elicit.ErrAnswersFrozen) {
+			// The true value was revealed between the page and the save.
+			sc.question.Revealed = true
+			again(http.StatusConflict, frozenMessage, &fit)
 			return
 		}
 		s.fail(w, r, err)
@@ -537,15 +569,22 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		Question: expertQuestionInfo{
 			ID: q.ID, Position: q.Position, Wording: q.Wording, Quantity: q.Quantity, Units: q.Units,
 			Lower: chart.FormatValue(q.Lower), Upper: chart.FormatValue(q.Upper),
-			Format: q.Format, Calibration: q.Calibration,
+			Format: q.Format,
 		},
 		Form: newAnswerForm(q, typed),
 	}
 	v.Form.Reason = reason
-	// A calibration question's true value reaches an expert's page only
-	// once the facilitator has revealed it.
-	if q.Calibration && q.Revealed && q.TrueValue != nil {
+	// A calibration question is marked, and its true value shown, only
+	// once the facilitator has revealed it; from then on the expert's last
+	// answer is final.
+	if q.Frozen() && q.TrueValue != nil {
 		v.Question.Revealed = chart.FormatValue(*q.TrueValue)
+	}
+	if q.Frozen() {
+		v.Frozen = true
+		if n := len(sc.own); n > 0 {
+			v.Form = newAnswerForm(q, answerValues(q, sc.own[n-1].Answer))
+		}
 	}
 	for i := len(sc.own) - 1; i >= 0; i-- {
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))

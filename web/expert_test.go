@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"errors"
 	"html"
 	"io"
 	"net/http"
@@ -391,16 +392,69 @@ func TestCalibrationTruthNeverReachesExperts(t *testing.T) {
 	check("save", body)
 	_, page = g.get(g.qpath(0, g.qcal) + "?saved=1")
 	check("page after save", page)
-	if !strings.Contains(page, "Calibration question") {
-		t.Error("the calibration question is not marked as one")
+	// Nor is a calibration question marked as one before the reveal: an
+	// expert who knew would take extra care exactly there.
+	_, home = g.get("/e/" + g.tokens[0] + "/")
+	for what, body := range map[string]string{"home": home, "question page": page} {
+		if strings.Contains(strings.ToLower(body), "calibration") {
+			t.Errorf("the expert's %s says which questions are calibration questions before the reveal", what)
+		}
 	}
 
-	// Once revealed, the expert may see it.
+	// Once revealed, the expert may see it, and is told the question was
+	// a calibration question whose answers are now final.
 	if err := g.db.SetTrueValue(context.Background(), g.qcal.ID, hiddenTruth, true, "workshop over"); err != nil {
 		t.Fatal(err)
 	}
-	if _, page = g.get(g.qpath(0, g.qcal)); !strings.Contains(page, "The true value is "+truth) {
+	if _, page = g.get(g.qpath(0, g.qcal)); !strings.Contains(page, "<dd>"+truth+". This was a calibration question") {
 		t.Error("the revealed true value is not shown")
+	}
+	if !strings.Contains(page, "your answer below is final") || !strings.Contains(page, `value="0.35" aria-invalid="false" aria-describedby="f-values-1-hint" readonly>`) {
+		t.Error("after the reveal the page does not show the last answer read-only")
+	}
+	if strings.Contains(page, "Save this answer") {
+		t.Error("after the reveal the page still offers to save")
+	}
+}
+
+// A save to a calibration question after its true value is revealed is
+// refused with 409 and writes nothing, even from a page opened before the
+// reveal; the expert's last answer stands.
+func TestSaveAfterRevealIsRefused(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	ctx := context.Background()
+	if resp, _ := g.post(g.qpath(0, g.qcal)+"/save", quantiles("0.2", "0.35", "0.6")); resp.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save before the reveal: %d", resp.StatusCode)
+	}
+	if err := g.db.SetTrueValue(ctx, g.qcal.ID, hiddenTruth, true, "shown to the room"); err != nil {
+		t.Fatal(err)
+	}
+	before := len(g.revisions())
+	truth := strconv.FormatFloat(hiddenTruth, 'f', -1, 64)
+	resp, body := g.post(g.qpath(0, g.qcal)+"/save", quantiles("0.3", truth, "0.4"))
+	if resp.StatusCode != http.StatusConflict {
+		t.Fatalf("save after the reveal: status %d, want 409", resp.StatusCode)
+	}
+	if !strings.Contains(body, "answers to it can no longer change and nothing was saved") {
+		t.Error("the 409 page does not say why in a plain sentence")
+	}
+	if !strings.Contains(body, `value="0.35"`) || strings.Contains(body, `value="0.4"`) {
+		t.Error("the 409 page does not show the last saved answer in place of the refused one")
+	}
+	if n := len(g.revisions()); n != before {
+		t.Fatalf("a save after the reveal wrote a revision: %d revisions, had %d", n, before)
+	}
+	// The second expert, who never answered, cannot answer after the reveal.
+	if resp, _ := g.post(g.qpath(1, g.qcal)+"/save", quantiles("0.3", truth, "0.4")); resp.StatusCode != http.StatusConflict {
+		t.Fatalf("first answer after the reveal: status %d, want 409", resp.StatusCode)
+	}
+	if n := len(g.revisions()); n != before {
+		t.Fatalf("a first answer after the reveal was written")
+	}
+	// The store refuses it too, whoever calls it.
+	rv := elicit.Revision{QuestionID: g.qcal.ID, ExpertID: g.experts[0].ID, Answer: elicit.Answer{Values: []float64{0.3, hiddenTruth, 0.4}}}
+	if err := g.db.SaveRevision(ctx, &rv); !errors.Is(err, elicit.ErrAnswersFrozen) {
+		t.Fatalf("store save after the reveal: %v, want ErrAnswersFrozen", err)
 	}
 }
 

@@ -1,7 +1,9 @@
 package web
 
 import (
+	"errors"
 	"net/http"
+	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -10,7 +12,9 @@ import (
 // pool's single-Beta representation, recomputed here from the stored
 // judgements (never taken from the form), or a Beta fitted by elicit to a
 // consensus judgement entered in the question's format. A rationale is
-// required.
+// required. While the round is open the facilitator must confirm it
+// (confirm_open), since answers may still change afterwards; the record
+// notes such a prior.
 func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -23,7 +27,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 	f := newForm(r.PostForm)
 	source := elicit.PriorSource(f.Choice("source", "", string(elicit.PriorFromPool), string(elicit.PriorFromConsensus)))
 	rationale := f.Text("rationale", MaxLongText, true)
-	p := elicit.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale}
+	p := elicit.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
 	switch source {
 	case elicit.PriorFromPool:
 		d, err := s.readWorkshopData(r.Context(), ws)
@@ -46,13 +50,29 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 			p.Dist, p.Consensus = fit.Dist, &a
 		}
 	}
+	if ws.Open && !p.RoundOpen {
+		f.set("confirm_open", openRoundWarning(ws))
+	}
 	if !f.OK() {
 		s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, nil, f)
 		return
 	}
 	if err := s.store.AgreePrior(r.Context(), &p); err != nil {
+		if errors.Is(err, elicit.ErrRoundStillOpen) {
+			// The round was opened between the page and the post.
+			f.set("confirm_open", openRoundWarning(ws))
+			s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, nil, f)
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#agreed", http.StatusSeeOther)
+}
+
+// openRoundWarning asks the facilitator to confirm a prior agreed while
+// experts can still change their answers.
+func openRoundWarning(ws elicit.Workshop) string {
+	return "Round " + strconv.Itoa(ws.Round) + " is still open, so experts can still change their answers after this prior is recorded. " +
+		"Close the round first, or tick the box to record the prior now; the record will say it was agreed while the round was open."
 }

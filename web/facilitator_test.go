@@ -165,10 +165,10 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		{"weight negative", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"r"}, weightField(es[0].ID): {"-1"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, weightField(es[0].ID), "-1"},
 		{"weight Inf", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"r"}, weightField(es[0].ID): {"Inf"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, weightField(es[0].ID), "Inf"},
 		{"weights all zero", qp + "/weights", url.Values{"scheme": {"custom"}, "reason": {"kept why"}, weightField(es[0].ID): {"0"}, weightField(es[1].ID): {"0"}, weightField(es[2].ID): {"0"}, weightField(es[3].ID): {"0"}}, "scheme", "kept why"},
-		{"agree without rationale", qp + "/agree", url.Values{"source": {"pool"}, "rationale": {""}}, "rationale", ""},
+		{"agree without rationale", qp + "/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {""}}, "rationale", ""},
 		{"agree unknown source", qp + "/agree", url.Values{"source": {"vote"}, "rationale": {"kept rationale"}}, "source", "kept rationale"},
-		{"consensus values decreasing", qp + "/agree", url.Values{"source": {"consensus"}, "rationale": {"r"}, "values[0]": {"0.2"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[1]", "0.2"},
-		{"consensus value thousands separator", qp + "/agree", url.Values{"source": {"consensus"}, "rationale": {"r"}, "values[0]": {"1,000"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[0]", "1,000"},
+		{"consensus values decreasing", qp + "/agree", url.Values{"source": {"consensus"}, "confirm_open": {"on"}, "rationale": {"r"}, "values[0]": {"0.2"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[1]", "0.2"},
+		{"consensus value thousands separator", qp + "/agree", url.Values{"source": {"consensus"}, "confirm_open": {"on"}, "rationale": {"r"}, "values[0]": {"1,000"}, "values[1]": {"0.1"}, "values[2]": {"0.3"}}, "values[0]", "1,000"},
 	}
 	for _, tt := range tests {
 		before := h.counts(ws.ID)
@@ -259,7 +259,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 
 	// Agree the pool's best Beta: it must equal what elicit computes from
 	// the stored judgements under the stored weights.
-	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "rationale": {"Pool of the two careful experts (invented)."}}); res.StatusCode != http.StatusSeeOther {
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Pool of the two careful experts (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree pool: %d %s", res.StatusCode, body)
 	}
 	d, err := h.srv.readWorkshopData(ctx, ws)
@@ -305,7 +305,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 	}
 
 	// Agree a consensus judgement instead; elicit fits it.
-	if res, body := h.post(qp+"/agree", url.Values{"source": {"consensus"}, "rationale": {"Discussed (invented)."},
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"consensus"}, "confirm_open": {"on"}, "rationale": {"Discussed (invented)."},
 		"values[0]": {"0.015"}, "values[1]": {"0.045"}, "values[2]": {"0.11"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree consensus: %d %s", res.StatusCode, body)
 	}
@@ -398,7 +398,7 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 func TestReportAndExports(t *testing.T) {
 	h, ws, qs, es, _ := seeded(t)
 	qp := questionPath(ws.ID, qs[0].ID)
-	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "rationale": {"Invented rationale for the report."}}); res.StatusCode != http.StatusSeeOther {
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Invented rationale for the report."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree: %d %s", res.StatusCode, body)
 	}
 	res, body := h.get(workshopPath(ws.ID) + "/report")
@@ -484,7 +484,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 		form url.Values
 	}{
 		{qp + "/weights", wf},
-		{qp + "/agree", url.Values{"source": {"pool"}, "rationale": {"Pool (invented)."}}},
+		{qp + "/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Pool (invented)."}}},
 		{wp + "/round", url.Values{"action": {"close"}}},
 		{wp + "/round", url.Values{"action": {"open"}, "reason": {"Spread discussed (invented)."}}},
 		{calibrationPath(ws.ID) + "/q/" + fmt.Sprint(qs[1].ID), url.Values{"true_value": {"0.0413"}, "reveal": {"on"}, "reason": {"Shown after round 2 (invented)."}}},

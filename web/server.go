@@ -142,6 +142,9 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	case errors.As(err, &ie):
 		s.renderPage(w, r, http.StatusBadRequest, PageMeta{Title: "Not accepted"},
 			messagePage("Not accepted", ie.Field+": "+string(ie.Rule)+detailSuffix(ie.Detail)))
+	case errors.Is(err, elicit.ErrRetired):
+		s.renderPage(w, r, http.StatusGone, PageMeta{Title: "Question withdrawn"},
+			messagePage("Question withdrawn", "The facilitator has withdrawn this question, so it takes no answers. Your other questions are on your own page; your private link still works."))
 	case errors.Is(err, elicit.ErrRoundClosed):
 		s.renderPage(w, r, http.StatusConflict, PageMeta{Title: "Round closed"},
 			messagePage("Round closed", "The round is closed, so nothing was saved."))

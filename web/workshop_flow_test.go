@@ -269,10 +269,10 @@ func TestWholeWorkshop(t *testing.T) {
 	qp := func(q string) string { return wp + "/q/" + strconv.FormatInt(qid[q], 10) }
 	fac.mustPost("custom weights", qp(qLate)+"/weights", wf, http.StatusSeeOther)
 	const poolRationale = "The weighted pool is close enough to a single Beta (invented)."
-	fac.mustPost("agree pool", qp(qLate)+"/agree", url.Values{"source": {"pool"}, "rationale": {poolRationale}}, http.StatusSeeOther)
+	fac.mustPost("agree pool", qp(qLate)+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {poolRationale}}, http.StatusSeeOther)
 	const consensusRationale = "The panel settled on one interval after discussion (invented)."
 	consensus := elicit.Answer{Lowest: 0.002, Highest: 0.03, Best: 0.009, Confidence: 0.8}
-	fac.mustPost("agree consensus", qp(qCancel)+"/agree", url.Values{"source": {"consensus"}, "rationale": {consensusRationale},
+	fac.mustPost("agree consensus", qp(qCancel)+"/agree", url.Values{"source": {"consensus"}, "confirm_open": {"on"}, "rationale": {consensusRationale},
 		"lowest": {"0.002"}, "highest": {"0.03"}, "best": {"0.009"}, "confidence": {"80"}}, http.StatusSeeOther)
 
 	rec = fac.exportJSON(wp)

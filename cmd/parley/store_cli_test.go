@@ -47,7 +47,7 @@ func cliWorkshop(t *testing.T) (path string, workshopID, questionID int64) {
 		}
 	}
 	check(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: qs[0].ID, Source: elicit.PriorFromPool,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 14}), Rationale: "the pool, unchanged"}))
+		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 14}), Rationale: "the pool, unchanged", RoundOpen: true}))
 	return path, w.ID, qs[0].ID
 }
 
