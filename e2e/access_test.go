@@ -44,6 +44,15 @@ func TestAccessInBrowser(t *testing.T) {
 	row := `#roster tbody tr:nth-child(1)`
 	fac.fill(row+` form[action$="/revoke"]`, "reason", "Left the panel (invented).")
 	fac.load("revoke", chromedp.Click(chromedp.CSS(row+` form[action$="/revoke"] button`)))
+	// Revoking asks first; nothing has changed until it is confirmed.
+	fac.sees("revoke confirmation", "Revoke the access of Cy Placeholder?", "Keep their access")
+	if st := ex.open(link); st != http.StatusOK {
+		t.Errorf("an unconfirmed revoke ended the link: status %d", st)
+	}
+	if v := fac.value(`form[action$="/revoke"] [name=reason]`); v != "Left the panel (invented)." {
+		t.Errorf("the confirmation lost the reason: %q", v)
+	}
+	fac.load("confirm the revoke", chromedp.Click(chromedp.CSS(`form[action$="/revoke"] button.button-danger`)))
 	fac.sees("roster after revoking", "revoked")
 	if st := ex.open(link); st != http.StatusNotFound {
 		t.Errorf("revoked link: status %d, want 404", st)

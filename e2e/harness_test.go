@@ -142,7 +142,21 @@ func (b *browser) person(name string) *person {
 	b.t.Helper()
 	ctx, cancel := chromedp.NewContext(b.root, chromedp.WithNewBrowserContext())
 	b.t.Cleanup(cancel)
-	p := &person{t: b.t, name: name, ctx: ctx}
+	return newPerson(b.t, name, ctx)
+}
+
+// tab opens another tab in p's browser context, with p's cookies: the
+// facilitator's second window, for the projector.
+func (p *person) tab(name string) *person {
+	p.t.Helper()
+	ctx, cancel := chromedp.NewContext(p.ctx)
+	p.t.Cleanup(cancel)
+	return newPerson(p.t, name, ctx)
+}
+
+func newPerson(t *testing.T, name string, ctx context.Context) *person {
+	b := struct{ t *testing.T }{t}
+	p := &person{t: t, name: name, ctx: ctx}
 	// The first run opens the tab; it must not carry a step timeout.
 	if err := chromedp.Do(ctx, chromedp.Navigate("about:blank")); err != nil {
 		b.t.Fatalf("%s: open tab: %v", name, err)

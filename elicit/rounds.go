@@ -11,6 +11,8 @@ const RuleRoundSequence Rule = "rounds run in sequence: close the open round, th
 // opening needs the current round closed and round one past it.
 func (w Workshop) CheckRoundChange(round int, open bool) error {
 	switch {
+	case open && w.Archived:
+		return inputErr("round", RuleArchived, "bring the workshop back before opening a round")
 	case open && w.Open:
 		return inputErr("round", RuleRoundSequence, "round %d is still open", w.Round)
 	case open && round != w.Round+1:

@@ -218,3 +218,13 @@ type AgreedPrior struct {
 	RoundOpen bool      `json:"while_round_open,omitempty"`
 	At        time.Time `json:"at"`
 }
+
+// DeletedWorkshop is what is left of a workshop deleted before anyone
+// answered: its title, when and why. A workshop with answers or agreed
+// priors is archived instead, never deleted.
+type DeletedWorkshop struct {
+	WorkshopID int64     `json:"workshop_id"`
+	Title      string    `json:"title"`
+	Reason     string    `json:"reason"`
+	At         time.Time `json:"at"`
+}

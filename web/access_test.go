@@ -55,7 +55,7 @@ func TestExpertTokensAreScoped(t *testing.T) {
 	}
 
 	// Revoked: the link stops working for reads and saves.
-	if res, _ := h.post(expertActionPath(ws.ID, es[0].ID, "revoke"), url.Values{}); res.StatusCode != http.StatusSeeOther {
+	if res, _ := h.post(expertActionPath(ws.ID, es[0].ID, "revoke"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("revoke: %d", res.StatusCode)
 	}
 	before = h.counts(ws.ID)

@@ -41,13 +41,13 @@ var (
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 		},
 		{
-			Wording:  "Calibration (invented): what proportion of the older HX-30 units installed in the (invented) 2023 batch failed within their first year?",
+			Wording:  "(Invented.) What proportion of the older HX-30 units installed in the (invented) 2023 batch failed within their first year?",
 			Quantity: "first-year failure proportion, HX-30 2023 batch", Units: "proportion of units",
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.0413),
 		},
 		{
-			Wording:  "Calibration (invented): of last year's inverter field returns at the cooperative, what proportion were traced to a capacitor fault?",
+			Wording:  "(Invented.) Of last year's inverter field returns at the cooperative, what proportion were traced to a capacitor fault?",
 			Quantity: "share of returns from capacitor faults", Units: "proportion of returns",
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.25, 0.5, 0.75},
 			Calibration: true, TrueValue: ptr(0.3268),

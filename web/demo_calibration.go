@@ -14,19 +14,19 @@ import (
 var (
 	demoSeeds = []elicit.Question{
 		{
-			Wording:  "Calibration (invented): at the cooperative's older (invented) sites, what proportion of HX-30 inverters needed a new cooling fan within three years of installation?",
+			Wording:  "(Invented.) At the cooperative's older (invented) sites, what proportion of HX-30 inverters needed a new cooling fan within three years of installation?",
 			Quantity: "three-year fan replacement share, HX-30", Units: "proportion of units",
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.1846),
 		},
 		{
-			Wording:  "Calibration (invented): in the (invented) 2024 site inspections, what proportion of string inverters showed corrosion on their DC connectors?",
+			Wording:  "(Invented.) In the (invented) 2024 site inspections, what proportion of string inverters showed corrosion on their DC connectors?",
 			Quantity: "share of inverters with connector corrosion", Units: "proportion of units",
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.0687),
 		},
 		{
-			Wording:  "Calibration (invented): what proportion of the (invented) 2022 batch of HX-30 units were still running their original firmware two years later?",
+			Wording:  "(Invented.) What proportion of the (invented) 2022 batch of HX-30 units were still running their original firmware two years later?",
 			Quantity: "share still on original firmware", Units: "proportion of units",
 			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.5521),

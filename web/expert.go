@@ -70,6 +70,9 @@ type expertQuestionView struct {
 	FeedbackRound int
 	// PanelMissing is set when the panel could not be read.
 	PanelMissing bool
+	// Reasons are the other experts' reasons from the feedback round,
+	// under the same labels as their curves; withheld ones are left out.
+	Reasons []feedbackReason
 	// Frozen is set once a calibration question's true value has been
 	// revealed: the expert's last answer is shown and cannot change.
 	Frozen bool
@@ -546,6 +549,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	s.live.publishEvent(sc.workshop.ID, liveEvent{Kind: "save", Question: sc.question.ID, At: rev.At})
 	http.Redirect(w, r, expertBase(r)+"/q/"+strconv.FormatInt(sc.question.ID, 10)+"?saved=1", http.StatusSeeOther)
 }
 
@@ -590,7 +594,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
 	if v.FeedbackRound = sc.workshop.FeedbackRound(); v.FeedbackRound > 0 {
-		v.Panel, v.Spread, v.PanelMissing = s.anonymousPanel(r, sc)
+		v.Panel, v.Spread, v.Reasons, v.PanelMissing = s.anonymousPanel(r, sc)
 	}
 	return v
 }
@@ -697,16 +701,16 @@ func problemSummary(af answerForm, f *Form) string {
 // whole panel at that close. Beyond overlayLimit other experts it
 // returns a spread instead: the own curve and the pool, with each other
 // expert as one interval.
-func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView, bool) {
+func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView, []feedbackReason, bool) {
 	fb, err := s.feedbackFor(r, sc)
 	if err != nil {
 		// The page is still useful without the panel; it says so, and the
 		// cause is logged.
 		s.log.ErrorContext(r.Context(), "round feedback", "question", sc.question.ID, "err", err)
-		return nil, nil, true
+		return nil, nil, nil, true
 	}
 	if fb == nil {
-		return nil, nil, false
+		return nil, nil, nil, false
 	}
 	q := sc.question
 	var own *elicit.ScaledBeta
@@ -716,38 +720,44 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 			own = &d
 		}
 	}
-	var others []elicit.ScaledBeta
+	var others []feedbackMember
 	for _, m := range fb.members {
 		if m.expertID != sc.expert.ID {
-			others = append(others, m.dist)
+			others = append(others, m)
 		}
 	}
 	if len(others) == 0 {
-		return nil, nil, false
+		return nil, nil, nil, false
 	}
 	var curves []chart.Curve
 	if own != nil {
 		curves = append(curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
 	}
 	id := "panel-q" + strconv.FormatInt(q.ID, 10)
+	reasons := fb.reasons(sc.expert.ID)
 	if len(others) > overlayLimit {
 		if fb.poolErr == nil {
 			curves = append(curves, poolCurve(fb.pool))
 		}
-		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: others}, false
+		dists := make([]elicit.ScaledBeta, len(others))
+		for i, m := range others {
+			dists[i] = m.dist
+		}
+		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists}, reasons, false
 	}
-	for i, d := range others {
-		curves = append(curves, chart.Curve{Label: "Expert " + strconv.Itoa(i+1), Role: chart.RoleExpert, Dist: d})
+	for _, m := range others {
+		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
 	}
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
 	}
-	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil, false
+	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil, reasons, false
 }
 
 // feedback is what every expert's page of a question shares through a
 // round: the fits of the panel's active experts as the previous round
-// closed, in the panel's order, and their equal-weight pool.
+// closed, in the panel's order and under its labels, their reasons, and
+// their equal-weight pool. The room view shows the same.
 type feedback struct {
 	members []feedbackMember
 	pool    elicit.Pool
@@ -757,37 +767,70 @@ type feedback struct {
 type feedbackMember struct {
 	expertID int64
 	dist     elicit.ScaledBeta
+	label    string // "Expert A", ... in the panel's order
+	// reason is the reason saved with the judgement fed back, empty when
+	// there is none or the facilitator withheld it; reasonRound is the
+	// round it was given in.
+	reason      string
+	reasonRound int
+}
+
+// feedbackReason is one expert's reason as the feedback shows it.
+type feedbackReason struct {
+	Label  string
+	Round  int
+	Reason string
+}
+
+// reasons are the members' reasons, leaving out those of the expert
+// except (0: nobody) and those with none.
+func (fb *feedback) reasons(except int64) []feedbackReason {
+	var out []feedbackReason
+	for _, m := range fb.members {
+		if m.expertID != except && m.reason != "" {
+			out = append(out, feedbackReason{Label: m.label, Round: m.reasonRound, Reason: m.reason})
+		}
+	}
+	return out
 }
 
 // feedbackKey names one question's feedback in a round: the round fed
-// back and the experts revoked when it was read. The revisions of a
-// closed round never change (saves go to the open round, and revisions
-// are append-only), so the feedback is read and pooled once per key; a
-// revocation, or a reissued token lifting one, gives a new key.
+// back, the experts revoked when it was read, and the generation of the
+// facilitator's reason decisions. The revisions of a closed round never
+// change (saves go to the open round, and revisions are append-only), so
+// the feedback is read and pooled once per key; a revocation, a reissued
+// token lifting one, or a reason withheld or shown again gives a new key.
 type feedbackKey struct {
 	question int64
 	through  int
 	revoked  string
+	reasons  uint64
 }
 
 // feedbackFor returns the panel fed back on sc's question in sc's round,
 // or nil when there is none yet.
 func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error) {
-	through := sc.workshop.FeedbackRound()
+	return s.panelThrough(r, sc.workshop, sc.question, sc.workshop.FeedbackRound())
+}
+
+// panelThrough returns question q's anonymised panel as round `through`
+// closed (nil when through is 0 or nobody answered by then), remembered
+// per feedbackKey.
+func (s *Server) panelThrough(r *http.Request, ws elicit.Workshop, q elicit.Question, through int) (*feedback, error) {
 	if through == 0 {
 		return nil, nil
 	}
-	revoked, err := s.store.RevokedExperts(r.Context(), sc.workshop.ID)
+	revoked, err := s.store.RevokedExperts(r.Context(), ws.ID)
 	if err != nil {
 		return nil, err
 	}
-	key := feedbackKey{question: sc.question.ID, through: through, revoked: fmt.Sprint(revoked)}
+	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
-		revs, err := s.store.LatestRevisions(r.Context(), sc.question.ID, through)
+		revs, err := s.store.LatestRevisions(r.Context(), q.ID, through)
 		if err != nil {
 			return nil, err
 		}
-		salt, err := s.store.PanelSalt(r.Context(), sc.workshop.ID)
+		salt, err := s.store.PanelSalt(r.Context(), ws.ID)
 		if err != nil {
 			return nil, err
 		}
@@ -801,7 +844,7 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 				kept = append(kept, rv)
 			}
 		}
-		return newFeedback(sc.question, kept, salt), nil
+		return newFeedback(q, kept, salt), nil
 	})
 	if err != nil {
 		return nil, err
@@ -813,8 +856,9 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 }
 
 // newFeedback fits the revisions (through the fit cache), orders the
-// experts by panelOrder, and pools them with equal weights. Revisions
-// that cannot be fitted are left out.
+// experts by panelOrder and labels them in that order, keeps the reasons
+// the facilitator has not withheld, and pools the fits with equal
+// weights. Revisions that cannot be fitted are left out.
 func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedback {
 	type keyed struct {
 		key string
@@ -827,18 +871,35 @@ func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedba
 		if err != nil {
 			continue
 		}
+		m := feedbackMember{expertID: rv.ExpertID, dist: fit.Dist}
+		if !rv.ReasonWithheld {
+			m.reason, m.reasonRound = strings.TrimSpace(rv.Reason), rv.Round
+		}
 		panel = append(panel, elicit.PanelFit{ExpertID: rv.ExpertID, Dist: &fit.Dist})
-		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), feedbackMember{rv.ExpertID, fit.Dist}})
+		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), m})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
 	fb := &feedback{}
-	for _, k := range ks {
+	for i, k := range ks {
+		k.m.label = panelLabel(i)
 		fb.members = append(fb.members, k.m)
 	}
 	// The same pooling rule as the facilitator's panel, with equal weights.
 	pp, err := elicit.PoolPanel(panel, elicit.Weights{Scheme: elicit.WeightsEqual})
 	fb.pool, fb.poolErr = pp.Pool, err
 	return fb
+}
+
+// panelLabel is the anonymous label of the i-th expert (from 0) in a
+// question's feedback order: "Expert A" to "Expert Z", then "Expert AA",
+// "Expert AB", ... as spreadsheet columns are named. Letters are easy to
+// say in the room and are not mistaken for question numbers.
+func panelLabel(i int) string {
+	s := ""
+	for n := i + 1; n > 0; n = (n - 1) / 26 {
+		s = string(rune('A'+(n-1)%26)) + s
+	}
+	return "Expert " + s
 }
 
 // panelOrder is an expert's sort key in a question's anonymised feedback:

@@ -18,12 +18,22 @@ import (
 //	POST /w/{workshop}/edit                  title, purpose, decision, notes
 //	GET  /w/{workshop}/questions/new         the add-question form
 //	POST /w/{workshop}/questions             add a question
-//	POST /w/{workshop}/experts               add an expert; shows their private link once
-//	POST /w/{workshop}/experts/{expert}/revoke   end an expert's access
+//	GET  /w/{workshop}/delete                confirm deleting a workshop that has no answers
+//	POST /w/{workshop}/delete                delete it (reason required)
+//	POST /w/{workshop}/archive               action=archive|restore, reason required
+//	POST /w/{workshop}/experts               add an expert (a duplicate name needs confirming)
+//	GET  /w/{workshop}/experts/{expert}/link?k=…   the private link just issued, after the redirect
+//	POST /w/{workshop}/experts/{expert}/revoke   end an expert's access (confirm=yes, else a confirmation page)
 //	POST /w/{workshop}/experts/{expert}/reissue  new private link (old one stops working)
-//	POST /w/{workshop}/round                 action=close|open, reason (required to open)
+//	POST /w/{workshop}/round                 action=close|open|reopen, reason (required to open or reopen)
+//	GET  /w/{workshop}/events                the live stream of changes (text/event-stream)
 //	GET  /w/{workshop}/log                   decision log
 //	GET  /w/{workshop}/q/{question}          panel: fits, overlay chart, pool, weights, agreed prior, history
+//	GET  /w/{workshop}/q/{question}/edit     correct the question (all of it before answers; its text after)
+//	POST /w/{workshop}/q/{question}/edit     save the correction (reason required)
+//	POST /w/{workshop}/q/{question}/retire   action=retire|restore, reason required
+//	POST /w/{workshop}/q/{question}/reasons/{revision}  action=withhold|release a reason from the feedback
+//	GET  /w/{workshop}/q/{question}/room     the anonymised panel for the projector
 //	POST /w/{workshop}/q/{question}/weights  scheme=equal|custom, weights[ID], reason
 //	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
 //	GET  /w/{workshop}/report                printable record
@@ -33,16 +43,26 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 	r.Get("/", s.workshopList)
 	r.Post("/workshops", s.createWorkshop)
 	r.Route("/w/{workshop}", func(r chi.Router) {
+		r.Use(s.archivedGuard, s.publishChanges)
 		r.Get("/", s.workshopOverview)
 		r.Post("/edit", s.editWorkshop)
 		r.Get("/questions/new", s.newQuestionForm)
 		r.Post("/questions", s.addQuestion)
+		r.Get("/delete", s.deleteWorkshopForm)
+		r.Post("/delete", s.deleteWorkshop)
+		r.Post("/archive", s.archiveWorkshop)
 		r.Post("/experts", s.addExpert)
+		r.Get("/experts/{expert}/link", s.issuedLinkPage)
 		r.Post("/experts/{expert}/revoke", s.revokeExpert)
 		r.Post("/experts/{expert}/reissue", s.reissueLink)
 		r.Post("/round", s.changeRound)
 		r.Get("/log", s.eventLog)
 		r.Get("/q/{question}", s.questionPanel)
+		r.Get("/q/{question}/edit", s.editQuestionForm)
+		r.Post("/q/{question}/edit", s.editQuestion)
+		r.Post("/q/{question}/retire", s.retireQuestion)
+		r.Post("/q/{question}/reasons/{revision}", s.withholdReason)
+		r.Get("/q/{question}/room", s.roomView)
 		r.Post("/q/{question}/weights", s.setWeights)
 		r.Post("/q/{question}/agree", s.agreePrior)
 		r.Get("/report", s.report)
@@ -58,7 +78,21 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 // create one.
 type workshopListView struct {
 	Workshops []elicit.Workshop
+	Deleted   []elicit.DeletedWorkshop
 	Form      *Form
+}
+
+func (v workshopListView) active() []elicit.Workshop   { return v.filter(false) }
+func (v workshopListView) archived() []elicit.Workshop { return v.filter(true) }
+
+func (v workshopListView) filter(archived bool) []elicit.Workshop {
+	var out []elicit.Workshop
+	for _, w := range v.Workshops {
+		if w.Archived == archived {
+			out = append(out, w)
+		}
+	}
+	return out
 }
 
 func (s *Server) workshopList(w http.ResponseWriter, r *http.Request) {
@@ -71,8 +105,13 @@ func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status
 		s.fail(w, r, err)
 		return
 	}
+	deleted, err := s.store.DeletedWorkshops(r.Context())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	s.renderPage(w, r, status, PageMeta{Title: "Workshops", Facilitator: true, Section: "workshops"},
-		workshopListPage(workshopListView{Workshops: ws, Form: f}))
+		workshopListPage(workshopListView{Workshops: ws, Deleted: deleted, Form: f}))
 }
 
 // createWorkshop validates the new workshop's fields and saves it; bad

@@ -67,16 +67,24 @@ func newLogView(ws elicit.Workshop, evs []elicit.Event, qs []elicit.Question, es
 
 // eventLabels are the log's plain words for each kind of decision.
 var eventLabels = map[elicit.EventKind]string{
-	elicit.EventWorkshopCreated: "Workshop created",
-	elicit.EventRoundClosed:     "Round closed",
-	elicit.EventRoundOpened:     "Round opened",
-	elicit.EventWeightsSet:      "Pool weights set",
-	elicit.EventPriorAgreed:     "Prior agreed",
-	elicit.EventTruthRevealed:   "True value revealed",
-	elicit.EventExpertAdded:     "Expert added",
-	elicit.EventExpertRevoked:   "Expert's access revoked",
-	elicit.EventTokenReissued:   "Expert's link re-issued",
-	elicit.EventQuestionAdded:   "Question added",
+	elicit.EventWorkshopCreated:  "Workshop created",
+	elicit.EventRoundClosed:      "Round closed",
+	elicit.EventRoundOpened:      "Round opened",
+	elicit.EventWeightsSet:       "Pool weights set",
+	elicit.EventPriorAgreed:      "Prior agreed",
+	elicit.EventTruthRevealed:    "True value revealed",
+	elicit.EventExpertAdded:      "Expert added",
+	elicit.EventExpertRevoked:    "Expert's access revoked",
+	elicit.EventTokenReissued:    "Expert's link re-issued",
+	elicit.EventQuestionAdded:    "Question added",
+	elicit.EventQuestionEdited:   "Question corrected",
+	elicit.EventQuestionRetired:  "Question retired",
+	elicit.EventQuestionRestored: "Question brought back",
+	elicit.EventRoundReopened:    "Round reopened",
+	elicit.EventWorkshopArchived: "Workshop archived",
+	elicit.EventWorkshopRestored: "Workshop brought back",
+	elicit.EventReasonWithheld:   "Reason withheld from the feedback",
+	elicit.EventReasonReleased:   "Reason shown again in the feedback",
 }
 
 func eventLabel(k elicit.EventKind) string {
@@ -96,6 +104,13 @@ type eventDetail struct {
 	Source    elicit.PriorSource  `json:"source"`
 	Dist      *elicit.ScaledBeta  `json:"dist"`
 	TrueValue *float64            `json:"true_value"`
+	RoundOpen bool                `json:"while_round_open"`
+	// A correction's changed fields, before and after.
+	Fields []string                   `json:"fields"`
+	Before map[string]json.RawMessage `json:"before"`
+	After  map[string]json.RawMessage `json:"after"`
+	// The revision whose reason was withheld or shown again.
+	RevisionID int64 `json:"revision_id"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'
@@ -171,8 +186,30 @@ func (w eventWriter) sentence(e elicit.Event) string {
 		return w.weights(d)
 	case elicit.EventPriorAgreed:
 		if d.Dist != nil {
-			return betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+			if d.RoundOpen {
+				s += " Agreed while the round was still open, after the facilitator confirmed it."
+			}
+			return s
 		}
+	case elicit.EventQuestionEdited:
+		return correction(d)
+	case elicit.EventQuestionRetired:
+		return "Hidden from experts and left out of the scores; kept in the record."
+	case elicit.EventQuestionRestored:
+		return "Shown to the experts again."
+	case elicit.EventRoundReopened:
+		if d.Round > 0 {
+			return "Round " + strconv.Itoa(d.Round) + " opened again after it was closed: experts can save again."
+		}
+	case elicit.EventWorkshopArchived:
+		return "Marked finished; nothing can be changed until it is brought back."
+	case elicit.EventWorkshopRestored:
+		return "Can be changed again; the round stays closed until the next opens."
+	case elicit.EventReasonWithheld:
+		return "One expert's reason on this question is kept from the other experts' feedback and the room view; it stays in the record."
+	case elicit.EventReasonReleased:
+		return "A withheld reason is shown in the feedback again."
 	case elicit.EventTruthRevealed:
 		if d.TrueValue != nil {
 			verb := "True value " + fv(*d.TrueValue) + " shown to the experts."
@@ -234,4 +271,43 @@ func betaLabel(d elicit.ScaledBeta) string {
 		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
 	}
 	return s
+}
+
+// correction writes a question's correction as each changed field's old
+// and new value.
+func correction(d eventDetail) string {
+	if len(d.Fields) == 0 {
+		return "—"
+	}
+	parts := make([]string, 0, len(d.Fields))
+	for _, f := range d.Fields {
+		parts = append(parts, fieldWord(f)+" was "+rawText(d.Before[f])+", now "+rawText(d.After[f]))
+	}
+	return strings.Join(parts, "; ") + "."
+}
+
+// fieldWord names a question's field as the question form does.
+func fieldWord(f string) string {
+	switch f {
+	case "probs":
+		return "probabilities"
+	case "bin_edges":
+		return "bin edges"
+	case "true_value":
+		return "true value"
+	}
+	return f
+}
+
+// rawText writes a JSON value from a correction's detail for reading:
+// strings quoted as “…”, numbers and lists as they are, null as "none".
+func rawText(m json.RawMessage) string {
+	var s string
+	if json.Unmarshal(m, &s) == nil {
+		return "“" + s + "”"
+	}
+	if t := string(m); t != "" && t != "null" {
+		return t
+	}
+	return "none"
 }

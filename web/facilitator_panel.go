@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/web/chart"
@@ -176,6 +177,20 @@ type panelView struct {
 	WeightsForm *Form
 	AgreeForm   *Form
 	Consensus   answerForm
+	RetireForm  *Form
+	// WithholdForm is a refused withhold or release, shown again.
+	WithholdForm *Form
+}
+
+// reasoned are the question's revisions that carry a reason, oldest first.
+func (st questionState) reasoned() []elicit.Revision {
+	var out []elicit.Revision
+	for _, rv := range st.History {
+		if strings.TrimSpace(rv.Reason) != "" {
+			out = append(out, rv)
+		}
+	}
+	return out
 }
 
 // loadQuestion reads the {question} of workshop ws, answering 404 when it
@@ -205,12 +220,19 @@ func (s *Server) questionPanel(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	s.showPanel(w, r, http.StatusOK, ws, q, nil, nil)
+	s.showPanelWith(w, r, http.StatusOK, ws, q, panelForms{})
 }
 
-// showPanel renders the panel; wf and af are forms to show again with
-// their errors (nil for fresh forms).
-func (s *Server) showPanel(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, q elicit.Question, wf, af *Form) {
+// panelForms are the panel's forms to show again with their errors; nil
+// fields are fresh.
+type panelForms struct {
+	weights, agree, retire, withhold *Form
+	withholdFor                      int64 // the revision whose withhold form is shown again
+}
+
+// showPanelWith renders the panel with forms to show again.
+func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, q elicit.Question, forms panelForms) {
+	wf, af := forms.weights, forms.agree
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
@@ -229,10 +251,67 @@ func (s *Server) showPanel(w http.ResponseWriter, r *http.Request, status int, w
 	}
 	cf := newAnswerForm(q, formValues(af))
 	applyErrors(&cf, af)
-	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf}
+	if forms.retire == nil {
+		forms.retire = newForm(nil)
+	}
+	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
+		RetireForm: forms.retire, WithholdForm: forms.withhold}
 	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
 	m.Caution = true
+	m.Scripts = []string{"/static/live.js"}
 	s.renderPage(w, r, status, m, panelPage(v))
 }
 
 func weightField(expertID int64) string { return fmt.Sprintf("weights[%d]", expertID) }
+
+// withholdReason withholds a revision's reason from the feedback and the
+// room view, or shows it again (action=withhold or release), with a
+// required reason; the revision must be on this question.
+func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	revID, ok := s.pathID(w, r, "revision")
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	found := false
+	for _, rv := range d.Revisions {
+		found = found || (rv.ID == revID && rv.QuestionID == q.ID)
+	}
+	if !found {
+		s.notFound(w, r)
+		return
+	}
+	f := newForm(r.PostForm)
+	action := f.Choice("action", "", "withhold", "release")
+	why := f.Text("withhold_reason", MaxLongText, true)
+	if f.OK() {
+		if err := s.store.SetReasonWithheld(r.Context(), revID, action == "withhold", why); err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, map[string]string{"reason": "withhold_reason", "revision": "withhold_reason"})
+		}
+	}
+	if !f.OK() {
+		if msg := f.Error("withhold_reason"); msg != "" {
+			f.set("", "Withholding or showing a reason needs a reason of its own: "+msg+".")
+		}
+		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{withhold: f})
+		return
+	}
+	s.reasonGen.Add(1)
+	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#reasons", http.StatusSeeOther)
+}

@@ -54,14 +54,14 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		f.set("confirm_open", openRoundWarning(ws))
 	}
 	if !f.OK() {
-		s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, nil, f)
+		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
 		return
 	}
 	if err := s.store.AgreePrior(r.Context(), &p); err != nil {
 		if errors.Is(err, elicit.ErrRoundStillOpen) {
 			// The round was opened between the page and the post.
 			f.set("confirm_open", openRoundWarning(ws))
-			s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, nil, f)
+			s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
 			return
 		}
 		s.fail(w, r, err)

@@ -2,6 +2,8 @@ package web
 
 import (
 	"net/http"
+	"slices"
+	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -19,11 +21,29 @@ var probPresets = []struct {
 	{"custom", "custom probabilities", nil},
 }
 
-// questionForm is the add-question page.
+// questionForm is the add-question page, or with Edit the page that
+// corrects a question.
 type questionForm struct {
 	Workshop elicit.Workshop
 	Form     *Form
+	Edit     *questionEdit
 }
+
+// questionEdit is the question being corrected and how many answers it
+// has: with any, only its wording, quantity and units may change.
+type questionEdit struct {
+	Question elicit.Question
+	Answers  int
+}
+
+func (v questionForm) action() string {
+	if v.Edit == nil {
+		return workshopPath(v.Workshop.ID) + "/questions"
+	}
+	return questionPath(v.Workshop.ID, v.Edit.Question.ID) + "/edit"
+}
+
+func (v questionForm) locked() bool { return v.Edit != nil && v.Edit.Answers > 0 }
 
 // questionAliases maps elicit's field names in Question.Validate errors
 // to this form's fields.
@@ -115,4 +135,132 @@ func parseQuestion(f *Form) elicit.Question {
 		}
 	}
 	return q
+}
+
+// questionValues writes q as the question form's values, for correcting it.
+func questionValues(q elicit.Question) map[string][]string {
+	m := map[string][]string{
+		"wording": {q.Wording}, "quantity": {q.Quantity}, "units": {q.Units},
+		"lower": {fv(q.Lower)}, "upper": {fv(q.Upper)}, "format": {string(q.Format)},
+		"preset": {"custom"}, "custom_probs": {joinFloats(q.Probs)},
+		"bin_edges": {joinFloats(q.BinEdges)}, "chips": {strconv.Itoa(q.Chips)},
+	}
+	for _, p := range probPresets {
+		if p.Probs != nil && slices.Equal(p.Probs, q.Probs) {
+			m["preset"], m["custom_probs"] = []string{p.Key}, []string{""}
+		}
+	}
+	if q.Format != elicit.FormatChips {
+		m["bin_edges"], m["chips"] = []string{""}, []string{""}
+	}
+	if q.Calibration {
+		m["calibration"] = []string{"on"}
+	}
+	if q.TrueValue != nil {
+		m["true_value"] = []string{strconv.FormatFloat(*q.TrueValue, 'g', -1, 64)}
+	}
+	return m
+}
+
+func joinFloats(xs []float64) string {
+	parts := make([]string, len(xs))
+	for i, x := range xs {
+		parts[i] = strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	return strings.Join(parts, ", ")
+}
+
+// loadEdit reads the question to correct and its number of answers.
+func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (elicit.Workshop, *questionEdit, bool) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return ws, nil, false
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return ws, nil, false
+	}
+	n, err := s.store.CountAnswers(r.Context(), q.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return ws, nil, false
+	}
+	return ws, &questionEdit{Question: q, Answers: n}, true
+}
+
+func (s *Server) editQuestionForm(w http.ResponseWriter, r *http.Request) {
+	ws, ed, ok := s.loadEdit(w, r)
+	if !ok {
+		return
+	}
+	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Correct question "+strconv.Itoa(ed.Question.Position), "overview"),
+		questionFormPage(questionForm{Workshop: ws, Form: newForm(questionValues(ed.Question)), Edit: ed}))
+}
+
+// editQuestion saves a correction with its required reason. With answers
+// only the wording, quantity and units are read from the form; the rest
+// is the stored question's, and elicit's CheckCorrection (in the store's
+// transaction) refuses any change to it.
+func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
+	ws, ed, ok := s.loadEdit(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	var next elicit.Question
+	if ed.Answers > 0 {
+		next = ed.Question
+		next.Wording = f.Text("wording", MaxLongText, true)
+		next.Quantity = f.Text("quantity", MaxShortText, true)
+		next.Units = f.Text("units", MaxShortText, false)
+	} else {
+		next = parseQuestion(f)
+	}
+	next.ID, next.WorkshopID = ed.Question.ID, ws.ID
+	reason := f.Text("reason", MaxLongText, true)
+	if f.OK() {
+		if err := s.store.EditQuestion(r.Context(), next, reason); err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, questionAliases)
+		}
+	}
+	if !f.OK() {
+		s.renderPage(w, r, http.StatusUnprocessableEntity, facilitatorMeta(ws, "Correct question "+strconv.Itoa(ed.Question.Position), "overview"),
+			questionFormPage(questionForm{Workshop: ws, Form: f, Edit: ed}))
+		return
+	}
+	http.Redirect(w, r, questionPath(ws.ID, ed.Question.ID), http.StatusSeeOther)
+}
+
+// retireQuestion retires a question or brings it back (action=retire or
+// restore), with a required reason.
+func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	action := f.Choice("action", "", "retire", "restore")
+	reason := f.Text("retire_reason", MaxLongText, true)
+	if f.OK() {
+		if err := s.store.SetQuestionRetired(r.Context(), q.ID, action == "retire", reason); err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, nil)
+		}
+	}
+	if !f.OK() {
+		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{retire: f})
+		return
+	}
+	http.Redirect(w, r, questionPath(ws.ID, q.ID), http.StatusSeeOther)
 }

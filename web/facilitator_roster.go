@@ -1,14 +1,81 @@
 package web
 
 import (
+	"crypto/rand"
+	"encoding/hex"
 	"net/http"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// addExpert puts a new expert on the panel and shows their private link
-// once. Only the token's hash is stored, so the link cannot be shown
-// again; re-issuing makes a new one.
+// issuedLinks holds each private link just issued for a short while, so
+// that adding an expert (or re-issuing a link) can redirect to a page
+// that shows it: reloading that page shows the link again instead of
+// adding the expert twice. Only the token's hash is ever stored; the link
+// itself lives here in memory for issuedFor, under a random key that
+// only the facilitator's redirect carries, and is gone with the process.
+type issuedLinks struct {
+	mu    sync.Mutex
+	links map[string]issuedEntry
+}
+
+type issuedEntry struct {
+	workshop, expert int64
+	url              string
+	expires          time.Time
+}
+
+// issuedFor is how long a just-issued link can be shown again.
+const issuedFor = 15 * time.Minute
+
+func newIssuedLinks() *issuedLinks { return &issuedLinks{links: map[string]issuedEntry{}} }
+
+// keep remembers url and returns the key to show it by.
+func (l *issuedLinks) keep(workshop, expert int64, url string, now time.Time) (string, error) {
+	b := make([]byte, 16)
+	if _, err := rand.Read(b); err != nil {
+		return "", err
+	}
+	key := hex.EncodeToString(b)
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	for k, e := range l.links {
+		if now.After(e.expires) {
+			delete(l.links, k)
+		}
+	}
+	l.links[key] = issuedEntry{workshop, expert, url, now.Add(issuedFor)}
+	return key, nil
+}
+
+// get returns the link kept under key for that workshop's expert, if it
+// has not expired.
+func (l *issuedLinks) get(key string, workshop, expert int64, now time.Time) (string, bool) {
+	l.mu.Lock()
+	defer l.mu.Unlock()
+	e, ok := l.links[key]
+	if !ok || e.workshop != workshop || e.expert != expert || now.After(e.expires) {
+		return "", false
+	}
+	return e.url, true
+}
+
+// sameName reports whether two display names are the same person's by
+// the rule a facilitator would apply at a glance: equal after trimming,
+// folding case and collapsing inner spaces.
+func sameName(a, b string) bool {
+	norm := func(s string) string { return strings.Join(strings.Fields(strings.ToLower(s)), " ") }
+	return norm(a) == norm(b)
+}
+
+// addExpert puts a new expert on the panel and redirects to the page that
+// shows their private link. A name already on the panel is refused with a
+// warning until the facilitator confirms it (allow_duplicate): two
+// experts of one name are usually one expert added twice.
 func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok || !parseForm(w, r) {
@@ -20,6 +87,24 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		Name:        f.Text("name", MaxShortText, true),
 		Affiliation: f.Text("affiliation", MaxShortText, false),
 		Expertise:   f.Text("expertise", MaxLongText, false),
+	}
+	if f.OK() && !f.Checked("allow_duplicate") {
+		others, err := s.store.Experts(r.Context(), ws.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		for _, o := range others {
+			if sameName(o.Name, e.Name) {
+				state := "on the panel"
+				if o.Revoked {
+					state = "on the panel, with access revoked"
+				}
+				f.set("name", "An expert named “"+o.Name+"” is already "+state+". If this is a different person, tick the box below to add them anyway; if it is the same person, use “New link” in the panel instead.")
+				f.Values.Set("duplicate_warned", "1")
+				break
+			}
+		}
 	}
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{ExpertForm: f})
@@ -34,9 +119,34 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	s.showOverview(w, r, http.StatusCreated, ws, workshopView{
-		Issued: &issuedLink{Expert: e, URL: s.absLink(r, expertPath(token))},
-	})
+	s.redirectToLink(w, r, ws, e, token)
+}
+
+// redirectToLink keeps the new link and sends the facilitator to the page
+// that shows it.
+func (s *Server) redirectToLink(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, e elicit.Expert, token string) {
+	key, err := s.issued.keep(ws.ID, e.ID, s.absLink(r, expertPath(token)), s.now())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, expertActionPath(ws.ID, e.ID, "link")+"?k="+key, http.StatusSeeOther)
+}
+
+// issuedLinkPage shows the overview with a link just issued. After
+// issuedFor, or after a restart, it says the link can no longer be shown.
+func (s *Server) issuedLinkPage(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	e, ok := s.loadExpert(w, r, ws)
+	if !ok {
+		return
+	}
+	url, found := s.issued.get(r.URL.Query().Get("k"), ws.ID, e.ID, s.now())
+	v := workshopView{Issued: &issuedLink{Expert: e, URL: url, Gone: !found}}
+	s.showOverview(w, r, http.StatusOK, ws, v)
 }
 
 // loadExpert reads the {expert} of the workshop ws, answering 404 when the
@@ -57,7 +167,17 @@ func (s *Server) loadExpert(w http.ResponseWriter, r *http.Request, ws elicit.Wo
 	return e, true
 }
 
-// revokeExpert ends an expert's access; their judgements stay in the record.
+// revokeView is the page that asks the facilitator to confirm a revoke.
+type revokeView struct {
+	Workshop elicit.Workshop
+	Expert   elicit.Expert
+	Answers  int
+	Form     *Form
+}
+
+// revokeExpert ends an expert's access; their judgements stay in the
+// record but leave the pool. Without confirm=yes (the roster's button) it
+// shows a page that says what revoking does and asks to confirm.
 func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -69,8 +189,18 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", MaxLongText, false)
-	if !f.OK() {
-		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RosterForm: f})
+	if !f.OK() || f.Value("confirm") != "yes" {
+		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		status := http.StatusOK
+		if !f.OK() {
+			status = http.StatusUnprocessableEntity
+		}
+		s.renderPage(w, r, status, facilitatorMeta(ws, "Revoke "+e.Name, "overview"),
+			revokePage(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
 		return
 	}
 	if err := s.store.RevokeExpert(r.Context(), e.ID, reason); err != nil {
@@ -81,7 +211,7 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 }
 
 // reissueLink replaces an expert's token; the old link stops working at
-// once and the new one is shown this once.
+// once and the new one is shown on the page the facilitator is sent to.
 func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -107,7 +237,9 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	e.Revoked = false
-	s.showOverview(w, r, http.StatusOK, ws, workshopView{
-		Issued: &issuedLink{Expert: e, URL: s.absLink(r, expertPath(token))},
-	})
+	s.redirectToLink(w, r, ws, e, token)
+}
+
+func answersLabel(n int) string {
+	return strconv.Itoa(n) + " " + plural(n, "saved answer", "saved answers")
 }

@@ -2,19 +2,25 @@ package web
 
 import (
 	"net/http"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
-// changeRound closes the open round or opens the next one. The rule that
-// rounds run in sequence is elicit's (Workshop.CheckRoundChange); a reason
-// is required to open a new round so the record says why the panel went
-// round again.
+// changeRound closes the open round, opens the next one, or reopens the
+// round just closed (action=reopen, for a round closed by mistake). The
+// rules are elicit's (Workshop.CheckRoundChange, Workshop.CheckReopen); a
+// reason is required to open or reopen a round so the record says why.
 func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}
 	f := newForm(r.PostForm)
-	action := f.Choice("action", "", "close", "open")
+	action := f.Choice("action", "", "close", "open", "reopen")
+	if action == "reopen" {
+		s.reopenRound(w, r, ws, f)
+		return
+	}
 	opening := action == "open"
 	reason := f.Text("reason", MaxLongText, opening)
 	round := ws.Round
@@ -30,6 +36,27 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	}
 	if err := s.store.SetRound(r.Context(), ws.ID, round, opening, reason); err != nil {
 		s.fail(w, r, err)
+		return
+	}
+	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)
+}
+
+func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, f *Form) {
+	reason := f.Text("reopen_reason", MaxLongText, true)
+	if f.OK() {
+		f.Fail(ws.CheckReopen(), map[string]string{"action": "reopen_reason"})
+	}
+	if f.OK() {
+		if err := s.store.ReopenRound(r.Context(), ws.ID, reason); err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, map[string]string{"action": "reopen_reason"})
+		}
+	}
+	if !f.OK() {
+		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RoundForm: f})
 		return
 	}
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)

@@ -364,7 +364,19 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	if r := rosterRow(body); strings.Count(r, `name="reason"`) != 1 || !strings.Contains(r, `action="`+revoke+`"`) || !strings.Contains(r, `formaction="`+reissue+`"`) {
 		t.Errorf("active expert's row: want one reason box, revoke and a new link:\n%s", r)
 	}
-	if res, _ := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}}); res.StatusCode != http.StatusSeeOther {
+	// Revoking asks for confirmation first and changes nothing until then.
+	if res, body := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}}); res.StatusCode != http.StatusOK ||
+		!strings.Contains(body, "Revoke the access of Expert One?") || !strings.Contains(body, `name="confirm" value="yes"`) ||
+		!strings.Contains(body, "left the panel") {
+		t.Fatalf("revoke without confirming: %d, want the confirmation page keeping the reason", res.StatusCode)
+	}
+	if res, _ := h.get(expertPath(token)); res.StatusCode != http.StatusOK {
+		t.Fatalf("an unconfirmed revoke ended the link: %d", res.StatusCode)
+	}
+	if evs, _ := h.db.Events(context.Background(), ws.ID); evs[len(evs)-1].Kind == elicit.EventExpertRevoked {
+		t.Fatal("an unconfirmed revoke was recorded")
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}, "confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("revoke: %d", res.StatusCode)
 	}
 	if res, body := h.get(expertPath(token)); res.StatusCode != http.StatusNotFound || strings.Contains(body, "Expert One") {
@@ -374,7 +386,11 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	if r := rosterRow(body); strings.Count(r, `name="reason"`) != 1 || !strings.Contains(r, `action="`+reissue+`"`) || strings.Contains(r, revoke) {
 		t.Errorf("revoked expert's row: want one reason box and a new link only:\n%s", r)
 	}
-	res, body := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}})
+	res, _ := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reissue: %d", res.StatusCode)
+	}
+	res, body = h.get(res.Header.Get("Location"))
 	m := linkPattern.FindStringSubmatch(body)
 	if res.StatusCode != http.StatusOK || m == nil || m[1] == token {
 		t.Fatalf("reissue: %d, link %v", res.StatusCode, m)
@@ -489,7 +505,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 		{wp + "/round", url.Values{"action": {"open"}, "reason": {"Spread discussed (invented)."}}},
 		{calibrationPath(ws.ID) + "/q/" + fmt.Sprint(qs[1].ID), url.Values{"true_value": {"0.0413"}, "reveal": {"on"}, "reason": {"Shown after round 2 (invented)."}}},
 		{calibrationPath(ws.ID) + "/q/" + fmt.Sprint(qs[1].ID), url.Values{"true_value": {"0.0415"}, "reason": {"Typo (invented)."}}},
-		{expertActionPath(ws.ID, es[3].ID, "revoke"), url.Values{"reason": {"Left (invented)."}}},
+		{expertActionPath(ws.ID, es[3].ID, "revoke"), url.Values{"reason": {"Left (invented)."}, "confirm": {"yes"}}},
 	}
 	for _, st := range steps {
 		if res, body := h.post(st.path, st.form); res.StatusCode != http.StatusSeeOther {
@@ -593,8 +609,8 @@ func TestOverviewCarriesEarlierAnswers(t *testing.T) {
 	// questions in round 1, not Q3; Priya did not answer Q1.
 	row := func(body, name string) string {
 		t.Helper()
-		i := strings.Index(body, `<section id="answered">`)
-		j := strings.Index(body[max(i, 0):], `<th scope="row">`+name+`</th>`)
+		i := strings.Index(body, `<section id="answered"`)
+		j := strings.Index(body[max(i, 0):], `<th scope="row">`+name)
 		if i < 0 || j < 0 {
 			t.Fatalf("no answered row for %s", name)
 		}

@@ -53,7 +53,7 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 		}
 	}
 	if !f.OK() {
-		s.showPanel(w, r, http.StatusUnprocessableEntity, ws, q, f, nil)
+		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{weights: f})
 		return
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#pool", http.StatusSeeOther)

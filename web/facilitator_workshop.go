@@ -15,20 +15,29 @@ type workshopView struct {
 	Experts   []elicit.Expert
 	// Answers[expertID][questionID] is the state of the expert's current
 	// judgement on the question; absent when they have never answered it.
-	Answers    map[int64]map[int64]answerState
-	ExpertForm *Form
-	RoundForm  *Form
-	RosterForm *Form // revoke and re-issue, whose errors show above the roster
-	EditForm   *Form // title, purpose, decision and notes
+	Answers     map[int64]map[int64]answerState
+	ExpertForm  *Form
+	RoundForm   *Form
+	RosterForm  *Form // revoke and re-issue, whose errors show above the roster
+	EditForm    *Form // title, purpose, decision and notes
+	ArchiveForm *Form // archive or bring back
+	// Now is when the page was drawn, for the live table's stamp.
+	Now string
+	// Removable is set when the workshop has no answers and no agreed
+	// priors, so it can be deleted rather than archived.
+	Removable bool
 	// Issued is set right after an expert is added or their link re-issued:
 	// the private link, shown this once.
 	Issued *issuedLink
 }
 
 // issuedLink is a freshly issued private link; only its hash is stored.
+// Gone is set when the link can no longer be shown (issuedFor passed, or
+// the server restarted).
 type issuedLink struct {
 	Expert elicit.Expert
 	URL    string
+	Gone   bool
 }
 
 // meta is the page shell for a facilitator page of workshop ws.
@@ -80,8 +89,15 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 		s.fail(w, r, err)
 		return
 	}
+	priors, err := s.store.AgreedPriors(ctx, ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	v.Workshop, v.Questions, v.Experts = ws, qs, es
 	v.Answers = answerStates(ws.Round, revs)
+	v.Removable = len(revs) == 0 && len(priors) == 0
+	v.Now = s.now().UTC().Format("15:04:05 UTC")
 	if v.ExpertForm == nil {
 		v.ExpertForm = newForm(nil)
 	}
@@ -91,12 +107,17 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 	if v.RosterForm == nil {
 		v.RosterForm = newForm(nil)
 	}
+	if v.ArchiveForm == nil {
+		v.ArchiveForm = newForm(nil)
+	}
 	if v.EditForm == nil {
 		v.EditForm = newForm(map[string][]string{
 			"title": {ws.Title}, "purpose": {ws.Purpose}, "decision": {ws.Decision}, "notes": {ws.Notes},
 		})
 	}
-	s.renderPage(w, r, status, facilitatorMeta(ws, ws.Title, "overview"), workshopPage(v))
+	m := facilitatorMeta(ws, ws.Title, "overview")
+	m.Scripts = []string{"/static/live.js"}
+	s.renderPage(w, r, status, m, workshopPage(v))
 }
 
 // answerState is where an expert's current judgement on a question comes
@@ -160,4 +181,24 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	http.Redirect(w, r, workshopPath(ws.ID), http.StatusSeeOther)
+}
+
+// activeQuestions are the questions not retired, which experts see.
+func (v workshopView) activeQuestions() []elicit.Question {
+	var out []elicit.Question
+	for _, q := range v.Questions {
+		if !q.Retired {
+			out = append(out, q)
+		}
+	}
+	return out
+}
+
+func (v workshopView) hasRevoked() bool {
+	for _, e := range v.Experts {
+		if e.Revoked {
+			return true
+		}
+	}
+	return false
 }

@@ -47,6 +47,9 @@ func (s *Server) routes() http.Handler {
 		s.expertRoutes(r) // expert.go
 	})
 
+	// The live stream answers 404 to anyone but the signed-in facilitator.
+	r.With(s.requireFacilitatorStream).Get("/w/{workshop}/events", s.liveEvents)
+
 	r.Group(func(r chi.Router) {
 		r.Use(s.requireFacilitator)
 		s.facilitatorRoutes(r)

@@ -13,6 +13,7 @@ import (
 	"runtime"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"time"
 
 	"github.com/a-h/templ"
@@ -47,6 +48,15 @@ type Server struct {
 	// turns bounds the expert handlers running at once to the CPUs and
 	// puts previews and saves before pages (turns.go).
 	turns *turns
+	// reasonGen moves on whenever a reason is withheld or shown again, so
+	// that the remembered feedback is read afresh (feedbackKey).
+	reasonGen atomic.Uint64
+	// live carries each workshop's changes to the facilitator's open
+	// pages (live.go).
+	live *liveHub
+	// issued holds private links just issued, for the page the
+	// facilitator is sent to after adding an expert (facilitator_roster.go).
+	issued *issuedLinks
 }
 
 // New returns a Server over st.
@@ -55,7 +65,7 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
-		turns: newTurns(runtime.GOMAXPROCS(0))}
+		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), issued: newIssuedLinks()}
 	if s.now == nil {
 		s.now = time.Now
 	}

@@ -147,8 +147,14 @@ var linkPattern = regexp.MustCompile(`/e/([A-Za-z0-9_-]{43})/`)
 func (h *harness) addExpert(ws elicit.Workshop, name string) (elicit.Expert, string) {
 	h.t.Helper()
 	res, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "affiliation": {"Invented Co."}})
-	if res.StatusCode != http.StatusCreated {
+	if res.StatusCode != http.StatusSeeOther {
 		h.t.Fatalf("add expert: %d", res.StatusCode)
+	}
+	// The link is shown on the page the facilitator is sent to, so a
+	// reload adds nobody.
+	res, body = h.get(res.Header.Get("Location"))
+	if res.StatusCode != http.StatusOK {
+		h.t.Fatalf("add expert: the link page answers %d", res.StatusCode)
 	}
 	m := linkPattern.FindStringSubmatch(body)
 	if m == nil {

@@ -24,14 +24,27 @@ type Store interface {
 	// (open=true, n = current+1), recording the event with its reason in
 	// the same transaction.
 	SetRound(ctx context.Context, workshopID int64, round int, open bool, reason string) error
+	// ReopenRound opens the last closed round again (elicit.Workshop.CheckReopen).
+	ReopenRound(ctx context.Context, workshopID int64, reason string) error
+	// SetArchived archives a workshop (closing its round) or brings it back.
+	SetArchived(ctx context.Context, workshopID int64, archived bool, reason string) error
+	// DeleteWorkshop removes a workshop with no answers and no agreed
+	// priors, leaving its title, time and reason in DeletedWorkshops.
+	DeleteWorkshop(ctx context.Context, workshopID int64, reason string) error
+	DeletedWorkshops(ctx context.Context) ([]elicit.DeletedWorkshop, error)
 
 	// Questions
 	AddQuestion(ctx context.Context, q *elicit.Question) error // sets ID, Position; records EventQuestionAdded
 	Question(ctx context.Context, id int64) (elicit.Question, error)
 	Questions(ctx context.Context, workshopID int64) ([]elicit.Question, error)
 	// SetTrueValue stores or reveals a calibration question's true value,
-	// recording EventTruthRevealed when reveal is true.
+	// recording EventTruthRevealed when reveal is true. The first reveal
+	// freezes the question's answers.
 	SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error
+	// Corrections, each with its event and reason.
+	CountAnswers(ctx context.Context, questionID int64) (int, error)
+	EditQuestion(ctx context.Context, q elicit.Question, reason string) error // elicit.Question.CheckCorrection
+	SetQuestionRetired(ctx context.Context, questionID int64, retired bool, reason string) error
 
 	// Experts and their access tokens (only hashes are stored).
 	AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte) error // records EventExpertAdded
@@ -53,6 +66,9 @@ type Store interface {
 	ExpertRevisions(ctx context.Context, expertID int64) ([]elicit.Revision, error)
 	QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]elicit.Revision, error)
 	LatestRevisions(ctx context.Context, questionID int64, through int) ([]elicit.Revision, error)
+	// SetReasonWithheld withholds a revision's reason from the round
+	// feedback and the room view, or shows it again.
+	SetReasonWithheld(ctx context.Context, revisionID int64, withheld bool, reason string) error
 
 	// Facilitator decisions.
 	SetWeights(ctx context.Context, w *elicit.Weights) error                          // records EventWeightsSet

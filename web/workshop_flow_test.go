@@ -182,7 +182,8 @@ func TestWholeWorkshop(t *testing.T) {
 	linkRE := regexp.MustCompile(regexp.QuoteMeta(ts.URL) + `(/e/[A-Za-z0-9_-]{43})/`)
 	links := map[string]string{}
 	for _, n := range names {
-		_, body := fac.mustPost("add expert", wp+"/experts", url.Values{"name": {n}, "expertise": {"rail operations (invented)"}}, http.StatusCreated)
+		res, _ := fac.mustPost("add expert", wp+"/experts", url.Values{"name": {n}, "expertise": {"rail operations (invented)"}}, http.StatusSeeOther)
+		_, body := fac.get(res.Header.Get("Location"))
 		m := linkRE.FindAllStringSubmatch(body, -1)
 		if len(m) == 0 {
 			t.Fatalf("no private link for %s on the page", n)

@@ -140,6 +140,9 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		IdleTimeout:       120 * time.Second,
 		MaxHeaderBytes:    32 << 10,
 	}
+	// Live event streams are requests that never finish on their own; a
+	// graceful shutdown ends them first rather than wait for them.
+	hs.RegisterOnShutdown(srv.EndStreams)
 	errc := make(chan error, 1)
 	go func() {
 		if c.tlsCert != "" {

@@ -1,0 +1,230 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"regexp"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web"
+)
+
+// liveWithin is the issue's bound: a facilitator's page shows a change
+// within two seconds of it.
+const liveWithin = 2 * time.Second
+
+// TestRoomAndLiveInBrowser runs the invented demo as a facilitator would
+// with a projector: the overview follows an expert's save without a
+// reload; round 1 closes; the room view of each question shows the
+// anonymised panel (no names, no weights, no hidden true value) under
+// the labels the experts then see in round 2, moves between questions by
+// keyboard, and follows round-2 saves live.
+func TestRoomAndLiveInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	links, err := web.SeedDemo(ctx, site.DB)
+	if err != nil || len(links) != 4 {
+		t.Fatalf("seed demo: %v, %d links", err, len(links))
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	w := ws[0]
+	qs, _ := site.DB.Questions(ctx, w.ID)
+	experts, _ := site.DB.Experts(ctx, w.ID)
+	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10) + "/"
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+
+	// The overview follows an expert's save without a reload. In the demo
+	// Priya has not answered question 1.
+	fac.viewport(1366, 900, false)
+	fac.open(wsURL)
+	fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+	cell := `(() => { const row = Array.from(document.querySelectorAll("#answered tbody tr")).find(r => r.innerText.startsWith("Priya Raman")); return row ? row.cells[1].innerText : "<no row>"; })()`
+	if got := eval[string](fac, "Priya's cell before", cell); got != "no answer yet" {
+		t.Fatalf("Priya's question-1 cell reads %q before her save", got)
+	}
+	priya := br.person("Priya Raman")
+	openQuestion(t, priya, site.URL+linkOf(t, links, "Priya Raman"), 1)
+	typeValues(priya, "0.02", "0.05", "0.12")
+	priya.fill(`form.answer-form`, "reason", "Supplier audits found two line faults (invented).")
+	saveAnswer(t, priya)
+	saved := time.Now()
+	if err := fac.poll(liveWithin, cell+` === "answered (1 save)"`); err != nil {
+		t.Fatalf("the overview did not show Priya's save within %v: %v (cell reads %q)", liveWithin, err, eval[string](fac, "cell", cell))
+	}
+	t.Logf("the overview showed the save %v after it", time.Since(saved).Round(time.Millisecond))
+	shots.take(fac, "room-01-live-overview-1366")
+
+	// Close round 1: the room now shows the panel as it closed.
+	fac.fill(`#rounds form`, "reason", "Discussion of round 1 (invented).")
+	if st := fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("close round 1: %d", st)
+	}
+	// The projector is the facilitator's second window: the same session.
+	room := fac.tab("projector")
+	room.viewport(1920, 1080, false)
+	q1 := qs[0]
+	roomURL := func(q elicit.Question) string {
+		return wsURL + "q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	}
+	if st := room.open(roomURL(q1)); st != http.StatusOK {
+		t.Fatalf("room view: %d", st)
+	}
+	room.sees("room view of question 1", "Q1:", "as round 1 closed", "Where the medians lie", "Expert A", "Expert B", "Expert C", "Expert D",
+		"Supplier audits found two line faults (invented).")
+	noLeaks(t, room, experts, qs)
+	// Nothing on the room view leaves it: its only links are its
+	// neighbours' room views.
+	hrefs := eval[[]string](room, "the room's links", `Array.from(document.querySelectorAll("a[href]")).map(a => a.getAttribute("href"))`)
+	for _, h := range hrefs {
+		if !strings.HasSuffix(h, "/room") {
+			t.Errorf("the room view links out of itself: %q", h)
+		}
+	}
+	if n := room.count(`form`); n != 0 {
+		t.Errorf("the room view carries %d forms", n)
+	}
+	fitsScreen(t, room, 1920, 1080)
+	shots.take(room, "room-02-question-1-1920x1080")
+	roomLabels := curveMedians(t, room)
+
+	// Keys move between the questions' room views.
+	room.do("press the right arrow", chromedp.KeyEvent(kb.ArrowRight))
+	room.waitFor("question 2's room view", fmt.Sprintf(`location.pathname.endsWith("/q/%d/room") && document.readyState === "complete"`, qs[1].ID))
+	room.sees("room view of question 2", "Q2:")
+	noLeaks(t, room, experts, qs)
+	shots.take(room, "room-03-question-2-1920x1080")
+	room.do("press Page Up", chromedp.KeyEvent(kb.PageUp))
+	room.waitFor("back to question 1", fmt.Sprintf(`location.pathname.endsWith("/q/%d/room") && document.readyState === "complete"`, q1.ID))
+
+	// Round 2: each expert's feedback uses the room's labels for the
+	// others, and leaves out their own.
+	fac.open(wsURL)
+	fac.fill(`#rounds form`, "reason", "The panel discussed the spread (invented).")
+	if st := fac.load("open round 2", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("open round 2: %d", st)
+	}
+	for _, l := range links {
+		ex := br.person(l.Name)
+		openQuestion(t, ex, site.URL+l.Path, 1)
+		mine := curveMedians(t, ex)
+		missing := 0
+		for label, med := range roomLabels {
+			got, ok := mine[label]
+			if !ok {
+				missing++
+				continue
+			}
+			if got != med {
+				t.Errorf("%s's round-2 page shows %s with median %s; the room shows %s", l.Name, label, got, med)
+			}
+		}
+		if missing != 1 || len(mine) != len(roomLabels)-1+1 { // the others, and "You"
+			t.Errorf("%s's page labels %v; the room labels %v: want every label but their own", l.Name, keys(mine), keys(roomLabels))
+		}
+	}
+
+	// The room follows round-2 saves live.
+	room.open(roomURL(q1))
+	room.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	room.sees("round 2 room", "0 of 4 experts have revised this question in round 2 so far.")
+	ines := br.person("Ines Varga again")
+	openQuestion(t, ines, site.URL+linkOf(t, links, "Ines Varga"), 1)
+	typeValues(ines, "0.02", "0.045", "0.1")
+	saveAnswer(t, ines)
+	if err := room.poll(liveWithin, `document.body.innerText.includes("1 of 4 experts have revised this question in round 2 so far.")`); err != nil {
+		t.Fatalf("the room did not show the round-2 save within %v: %v", liveWithin, err)
+	}
+	// The panel itself stays as round 1 closed, as the experts see it.
+	if again := curveMedians(t, room); fmt.Sprint(again) != fmt.Sprint(roomLabels) {
+		t.Errorf("a round-2 save changed the room's round-1 panel: %v → %v", roomLabels, again)
+	}
+	noLeaks(t, room, experts, qs)
+}
+
+func linkOf(t *testing.T, links []web.DemoLink, name string) string {
+	t.Helper()
+	for _, l := range links {
+		if l.Name == name {
+			return l.Path
+		}
+	}
+	t.Fatalf("no demo link for %s", name)
+	return ""
+}
+
+// noLeaks fails when the room view's page (text and markup) names an
+// expert, shows a weight, or a true value not yet revealed.
+func noLeaks(t *testing.T, p *person, experts []elicit.Expert, qs []elicit.Question) {
+	t.Helper()
+	html := eval[string](p, "the page's markup", `document.documentElement.outerHTML`)
+	text := p.text()
+	for _, e := range experts {
+		for _, part := range strings.Fields(e.Name) {
+			if strings.Contains(html, part) {
+				t.Errorf("%s: the room view names %q (of %s)", p.url(), part, e.Name)
+			}
+		}
+	}
+	// The experts' own "Equal-weight pool" is the only weight named.
+	if m := regexp.MustCompile(`(?i)(^|[^-])\bweights?\b|performance`).FindString(strings.ReplaceAll(text, "Equal-weight pool", "")); m != "" {
+		t.Errorf("%s: the room view speaks of weights: %q", p.url(), m)
+	}
+	for _, q := range qs {
+		if q.TrueValue != nil && !q.Revealed {
+			if strings.Contains(html, strconv.FormatFloat(*q.TrueValue, 'f', -1, 64)) {
+				t.Errorf("%s: the room view shows question %d's hidden true value %v", p.url(), q.Position, *q.TrueValue)
+			}
+		}
+	}
+	if strings.Contains(strings.ToLower(text), "calibration") {
+		t.Errorf("%s: the room view says which questions are calibration questions", p.url())
+	}
+}
+
+// fitsScreen fails when the page scrolls sideways or its main picture
+// does not fit the screen's height.
+func fitsScreen(t *testing.T, p *person, w, h int) {
+	t.Helper()
+	if sw := eval[int](p, "page width", `document.documentElement.scrollWidth`); sw > w {
+		t.Errorf("the page is %d px wide on a %d px screen", sw, w)
+	}
+	bottom := eval[float64](p, "picture's bottom", `(document.querySelector(".room-chart svg") || {getBoundingClientRect: () => ({bottom: 0})}).getBoundingClientRect().bottom`)
+	if bottom <= 0 || bottom > float64(h) {
+		t.Errorf("the room's picture ends at %.0f px on a %d px screen", bottom, h)
+	}
+}
+
+// curveMedians reads each labelled curve's median from the picture's
+// table of percentiles: label → median as printed.
+func curveMedians(t *testing.T, p *person) map[string]string {
+	t.Helper()
+	rows := eval[[][]string](p, "the curves' medians", `Array.from(document.querySelectorAll("table.chart-table tbody tr")).
+		filter(r => r.querySelector("th") && /^(Expert [A-Z]+|You)/.test(r.querySelector("th").textContent.trim())).
+		map(r => [r.querySelector("th").textContent.trim().split(/\s+/).slice(0, 2).join(" ").replace(/^You.*/, "You"), r.cells[3].textContent.trim()])`)
+	m := map[string]string{}
+	for _, r := range rows {
+		m[r[0]] = r[1]
+	}
+	return m
+}
+
+func keys(m map[string]string) []string {
+	var out []string
+	for k := range m {
+		out = append(out, k)
+	}
+	sort.Strings(out)
+	return out
+}

@@ -1,0 +1,101 @@
+package elicit
+
+import (
+	"slices"
+	"strings"
+)
+
+// Rules for corrections made after a workshop has started.
+const (
+	RuleLockedAfterAnswers Rule = "cannot change once experts have answered the question"
+	RuleNothingChanged     Rule = "nothing to change"
+	RuleArchived           Rule = "the workshop is archived"
+	RuleHasAnswers         Rule = "the workshop has answers or agreed priors: archive it instead"
+)
+
+// CheckCorrection reports whether q may become next. Before any expert
+// has answered, any part of a question may be corrected, within
+// Question.Validate's rules. Once experts have answered, an answer means
+// what it meant when it was given only if the bounds, the format, the
+// probabilities, the bins and the chips stay as they were, and a
+// calibration question stays one (or not); so then only the wording, the
+// quantity and the units may change, and the first locked field that
+// differs is named with RuleLockedAfterAnswers. The ID, workshop,
+// position and reveal state are not the correction's to change.
+func (q Question) CheckCorrection(next Question, answered bool) error {
+	if err := next.Validate(); err != nil {
+		return err
+	}
+	if answered {
+		locked := []struct {
+			field   string
+			changed bool
+		}{
+			{"lower", next.Lower != q.Lower},
+			{"upper", next.Upper != q.Upper},
+			{"format", next.Format != q.Format},
+			{"probs", !slices.Equal(next.Probs, q.Probs)},
+			{"bin_edges", !slices.Equal(next.BinEdges, q.BinEdges)},
+			{"chips", next.Chips != q.Chips},
+			{"calibration", next.Calibration != q.Calibration},
+			{"true_value", !sameTruth(next.TrueValue, q.TrueValue)},
+		}
+		for _, l := range locked {
+			if l.changed {
+				return inputErr(l.field, RuleLockedAfterAnswers, "")
+			}
+		}
+	}
+	if q.Corrected(next) == nil {
+		return inputErr("wording", RuleNothingChanged, "the corrected question is the same as the question")
+	}
+	return nil
+}
+
+// Corrected lists the names of the fields in which next differs from q,
+// in the order of the question form; nil when none does.
+func (q Question) Corrected(next Question) []string {
+	var out []string
+	for _, f := range []struct {
+		name    string
+		changed bool
+	}{
+		{"wording", strings.TrimSpace(next.Wording) != strings.TrimSpace(q.Wording)},
+		{"quantity", next.Quantity != q.Quantity},
+		{"units", next.Units != q.Units},
+		{"lower", next.Lower != q.Lower},
+		{"upper", next.Upper != q.Upper},
+		{"format", next.Format != q.Format},
+		{"probs", !slices.Equal(next.Probs, q.Probs)},
+		{"bin_edges", !slices.Equal(next.BinEdges, q.BinEdges)},
+		{"chips", next.Chips != q.Chips},
+		{"calibration", next.Calibration != q.Calibration},
+		{"true_value", !sameTruth(next.TrueValue, q.TrueValue)},
+	} {
+		if f.changed {
+			out = append(out, f.name)
+		}
+	}
+	return out
+}
+
+func sameTruth(a, b *float64) bool {
+	if a == nil || b == nil {
+		return a == nil && b == nil
+	}
+	return *a == *b
+}
+
+// CheckReopen reports whether w's last closed round may be opened again:
+// the round must be closed and the workshop not archived. Reopening keeps
+// the round's number, so the experts' feedback stays that of the round
+// before it.
+func (w Workshop) CheckReopen() error {
+	switch {
+	case w.Archived:
+		return inputErr("action", RuleArchived, "bring the workshop back before reopening a round")
+	case w.Open:
+		return inputErr("action", RuleRoundSequence, "round %d is open, so there is no closed round to reopen", w.Round)
+	}
+	return nil
+}

@@ -1,0 +1,320 @@
+package store
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"errors"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Corrections a facilitator makes after a workshop has started. Each is
+// one transaction that changes the row and records its event with the
+// reason, so the record keeps what was there before.
+
+// CountAnswers returns how many revisions experts have saved on the
+// question.
+func (db *DB) CountAnswers(ctx context.Context, questionID int64) (int, error) {
+	var n int
+	if err := db.r.QueryRowContext(ctx, `SELECT COUNT(*) FROM revisions WHERE question_id = ?`, questionID).Scan(&n); err != nil {
+		return 0, fmt.Errorf("store: count answers: %w", err)
+	}
+	return n, nil
+}
+
+// questionChange is an EventQuestionEdited's detail: the changed fields
+// as they were and as they became.
+type questionChange struct {
+	Fields []string        `json:"fields"`
+	Before json.RawMessage `json:"before"`
+	After  json.RawMessage `json:"after"`
+}
+
+// EditQuestion corrects question q.ID to q's definition, under
+// elicit.Question.CheckCorrection: with no answers any part may change;
+// once answered only the wording, quantity and units. The answered check
+// and the update are one transaction, so an answer cannot slip in between.
+// The event keeps the changed fields before and after.
+func (db *DB) EditQuestion(ctx context.Context, q elicit.Question, reason string) error {
+	probs, err := marshalList(q.Probs)
+	if err != nil {
+		return err
+	}
+	edges, err := marshalList(q.BinEdges)
+	if err != nil {
+		return err
+	}
+	return db.write(ctx, func(tx *sql.Tx) error {
+		old, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, q.ID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", q.ID)
+		}
+		if err != nil {
+			return err
+		}
+		var answers int
+		if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM revisions WHERE question_id = ?`, q.ID).Scan(&answers); err != nil {
+			return fmt.Errorf("store: edit question: %w", err)
+		}
+		// What the correction may not touch comes from the stored row.
+		q.WorkshopID, q.Position, q.Revealed, q.RevealedAt, q.RevealedThrough, q.Retired =
+			old.WorkshopID, old.Position, old.Revealed, old.RevealedAt, old.RevealedThrough, old.Retired
+		if err := old.CheckCorrection(q, answers > 0); err != nil {
+			return err
+		}
+		if _, err := tx.ExecContext(ctx,
+			`UPDATE questions SET wording = ?, quantity = ?, units = ?, lower = ?, upper = ?, format = ?,
+			 probs = ?, bin_edges = ?, chips = ?, calibration = ?, true_value = ? WHERE id = ?`,
+			q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
+			probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), q.ID); err != nil {
+			return fmt.Errorf("store: edit question: %w", err)
+		}
+		fields := old.Corrected(q)
+		detail, err := json.Marshal(questionChange{Fields: fields, Before: pick(old, fields), After: pick(q, fields)})
+		if err != nil {
+			return fmt.Errorf("store: edit question: %w", err)
+		}
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: old.WorkshopID, QuestionID: q.ID, Kind: elicit.EventQuestionEdited,
+			At: now(), Reason: reason, Detail: string(detail),
+		})
+	})
+}
+
+// pick is the JSON object of q's named fields, by their JSON names.
+func pick(q elicit.Question, fields []string) json.RawMessage {
+	var all map[string]json.RawMessage
+	b, _ := json.Marshal(q)
+	_ = json.Unmarshal(b, &all)
+	out := map[string]json.RawMessage{}
+	for _, f := range fields {
+		if v, ok := all[f]; ok {
+			out[f] = v
+		} else {
+			out[f] = json.RawMessage("null")
+		}
+	}
+	b, _ = json.Marshal(out)
+	return b
+}
+
+// SetQuestionRetired retires a question (hidden from experts, left out of
+// pools and scores, kept in the record) or brings it back, with its event.
+func (db *DB) SetQuestionRetired(ctx context.Context, questionID int64, retired bool, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		q, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", questionID)
+		}
+		if err != nil {
+			return err
+		}
+		if q.Retired == retired {
+			state := "in use"
+			if retired {
+				state = "retired"
+			}
+			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the question is already " + state}
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE questions SET retired = ? WHERE id = ?`, boolInt(retired), questionID); err != nil {
+			return fmt.Errorf("store: retire question: %w", err)
+		}
+		kind := elicit.EventQuestionRestored
+		if retired {
+			kind = elicit.EventQuestionRetired
+		}
+		return insertEvent(ctx, tx, elicit.Event{WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: kind, At: now(), Reason: reason})
+	})
+}
+
+// ReopenRound opens the workshop's last closed round again (the same
+// round number), under elicit.Workshop.CheckReopen, with its event.
+func (db *DB) ReopenRound(ctx context.Context, workshopID int64, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		w, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, workshopID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("workshop", workshopID)
+		}
+		if err != nil {
+			return err
+		}
+		if err := w.CheckReopen(); err != nil {
+			return err
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 1 WHERE id = ?`, workshopID); err != nil {
+			return fmt.Errorf("store: reopen round: %w", err)
+		}
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: workshopID, Kind: elicit.EventRoundReopened, At: now(), Reason: reason,
+			Detail: fmt.Sprintf(`{"round":%d}`, w.Round),
+		})
+	})
+}
+
+// SetArchived archives a workshop (closing its open round first, with
+// that event too) or brings it back with its round closed.
+func (db *DB) SetArchived(ctx context.Context, workshopID int64, archived bool, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		w, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, workshopID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("workshop", workshopID)
+		}
+		if err != nil {
+			return err
+		}
+		if w.Archived == archived {
+			state := "in use"
+			if archived {
+				state = "archived"
+			}
+			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the workshop is already " + state}
+		}
+		at := now()
+		if archived && w.Open {
+			if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 0 WHERE id = ?`, workshopID); err != nil {
+				return fmt.Errorf("store: archive: %w", err)
+			}
+			if err := insertEvent(ctx, tx, elicit.Event{
+				WorkshopID: workshopID, Kind: elicit.EventRoundClosed, At: at, Reason: "closed to archive the workshop",
+				Detail: fmt.Sprintf(`{"round":%d}`, w.Round),
+			}); err != nil {
+				return err
+			}
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET archived = ? WHERE id = ?`, boolInt(archived), workshopID); err != nil {
+			return fmt.Errorf("store: archive: %w", err)
+		}
+		kind := elicit.EventWorkshopRestored
+		if archived {
+			kind = elicit.EventWorkshopArchived
+		}
+		return insertEvent(ctx, tx, elicit.Event{WorkshopID: workshopID, Kind: kind, At: at, Reason: reason})
+	})
+}
+
+// DeleteWorkshop removes a workshop that has no answers and no agreed
+// priors, with its questions, panel, events and weight sets, leaving a
+// row in workshop_deletions with its title, time and reason. A workshop
+// with answers or agreed priors is refused (elicit.RuleHasAnswers): it is
+// archived instead, since its record must stay whole. The append-only
+// triggers let a workshop's events and weight sets go only while its
+// deletion row is pending, inside this transaction.
+func (db *DB) DeleteWorkshop(ctx context.Context, workshopID int64, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		w, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, workshopID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("workshop", workshopID)
+		}
+		if err != nil {
+			return err
+		}
+		var answers, priors int
+		if err := tx.QueryRowContext(ctx,
+			`SELECT (SELECT COUNT(*) FROM revisions r JOIN questions q ON q.id = r.question_id WHERE q.workshop_id = ?),
+			        (SELECT COUNT(*) FROM agreed_priors p JOIN questions q ON q.id = p.question_id WHERE q.workshop_id = ?)`,
+			workshopID, workshopID).Scan(&answers, &priors); err != nil {
+			return fmt.Errorf("store: delete workshop: %w", err)
+		}
+		if answers > 0 || priors > 0 {
+			return &elicit.InputError{Field: "action", Rule: elicit.RuleHasAnswers,
+				Detail: fmt.Sprintf("%d answers, %d agreed priors", answers, priors)}
+		}
+		res, err := tx.ExecContext(ctx,
+			`INSERT INTO workshop_deletions (workshop_id, title, reason, at, pending) VALUES (?, ?, ?, ?, 1)`,
+			workshopID, w.Title, reason, formatTime(now()))
+		if err != nil {
+			return fmt.Errorf("store: delete workshop: %w", err)
+		}
+		mark, _ := res.LastInsertId()
+		for _, stmt := range []string{
+			`DELETE FROM events WHERE workshop_id = ?`,
+			`DELETE FROM weight_sets WHERE workshop_id = ?`,
+			`DELETE FROM questions WHERE workshop_id = ?`,
+			`DELETE FROM experts WHERE workshop_id = ?`,
+			`DELETE FROM panel_salts WHERE workshop_id = ?`,
+			`DELETE FROM workshops WHERE id = ?`,
+		} {
+			if _, err := tx.ExecContext(ctx, stmt, workshopID); err != nil {
+				return fmt.Errorf("store: delete workshop: %w", err)
+			}
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE workshop_deletions SET pending = 0 WHERE id = ?`, mark); err != nil {
+			return fmt.Errorf("store: delete workshop: %w", err)
+		}
+		return nil
+	})
+}
+
+// DeletedWorkshops lists the workshops deleted from this database, oldest
+// first.
+func (db *DB) DeletedWorkshops(ctx context.Context) ([]elicit.DeletedWorkshop, error) {
+	rows, err := db.r.QueryContext(ctx,
+		`SELECT workshop_id, title, reason, at FROM workshop_deletions WHERE pending = 0 ORDER BY id`)
+	if err != nil {
+		return nil, fmt.Errorf("store: deleted workshops: %w", err)
+	}
+	defer rows.Close()
+	var out []elicit.DeletedWorkshop
+	for rows.Next() {
+		var (
+			d  elicit.DeletedWorkshop
+			at string
+		)
+		if err := rows.Scan(&d.WorkshopID, &d.Title, &d.Reason, &at); err != nil {
+			return nil, fmt.Errorf("store: deleted workshops: %w", err)
+		}
+		if d.At, err = parseTime(at); err != nil {
+			return nil, err
+		}
+		out = append(out, d)
+	}
+	return out, rows.Err()
+}
+
+// SetReasonWithheld withholds a revision's reason from the experts' round
+// feedback (and the room view), or shows it again, with its event. The
+// reason itself stays in the record.
+func (db *DB) SetReasonWithheld(ctx context.Context, revisionID int64, withheld bool, reason string) error {
+	if reason == "" {
+		return &elicit.InputError{Field: "reason", Rule: elicit.RuleRequired}
+	}
+	return db.write(ctx, func(tx *sql.Tx) error {
+		var (
+			workshopID, questionID int64
+			text                   string
+			current                int
+		)
+		err := tx.QueryRowContext(ctx,
+			`SELECT q.workshop_id, r.question_id, r.reason,
+			        COALESCE((SELECT d.withheld FROM reason_decisions d WHERE d.revision_id = r.id ORDER BY d.id DESC LIMIT 1), 0)
+			 FROM revisions r JOIN questions q ON q.id = r.question_id WHERE r.id = ?`, revisionID).
+			Scan(&workshopID, &questionID, &text, &current)
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("revision", revisionID)
+		}
+		if err != nil {
+			return fmt.Errorf("store: withhold reason: %w", err)
+		}
+		if text == "" {
+			return &elicit.InputError{Field: "revision", Rule: elicit.RuleNothingChanged, Detail: "the revision has no reason"}
+		}
+		if (current == 1) == withheld {
+			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the reason is already " + map[bool]string{true: "withheld", false: "shown"}[withheld]}
+		}
+		at := now()
+		if _, err := tx.ExecContext(ctx, `INSERT INTO reason_decisions (revision_id, withheld, reason, at) VALUES (?, ?, ?, ?)`,
+			revisionID, boolInt(withheld), reason, formatTime(at)); err != nil {
+			return fmt.Errorf("store: withhold reason: %w", err)
+		}
+		kind := elicit.EventReasonReleased
+		if withheld {
+			kind = elicit.EventReasonWithheld
+		}
+		return insertEvent(ctx, tx, elicit.Event{
+			WorkshopID: workshopID, QuestionID: questionID, Kind: kind, At: at, Reason: reason,
+			Detail: fmt.Sprintf(`{"revision_id":%d}`, revisionID),
+		})
+	})
+}

@@ -1,0 +1,225 @@
+package store
+
+import (
+	"context"
+	"encoding/json"
+	"errors"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func lastEvent(t *testing.T, db *DB, workshopID int64) elicit.Event {
+	t.Helper()
+	evs, err := db.Events(context.Background(), workshopID)
+	if err != nil || len(evs) == 0 {
+		t.Fatalf("events: %v, %d", err, len(evs))
+	}
+	return evs[len(evs)-1]
+}
+
+func TestEditQuestionBeforeAndAfterAnswers(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := p.qs[0]
+
+	// No answers yet: anything may change, and the event keeps the old text.
+	next := q
+	next.Wording = "What share of seals fail within their first year in service?"
+	next.Upper = 0.5
+	next.Probs = []float64{0.1, 0.5, 0.9}
+	must(t, db.EditQuestion(ctx, next, "typo and a tighter range"))
+	got, _ := db.Question(ctx, q.ID)
+	if got.Wording != next.Wording || got.Upper != 0.5 || got.Probs[0] != 0.1 {
+		t.Fatalf("edited question reads back as %+v", got)
+	}
+	ev := lastEvent(t, db, p.w.ID)
+	var change questionChange
+	if err := json.Unmarshal([]byte(ev.Detail), &change); err != nil {
+		t.Fatal(err)
+	}
+	if ev.Kind != elicit.EventQuestionEdited || ev.Reason != "typo and a tighter range" || ev.QuestionID != q.ID ||
+		strings.Join(change.Fields, ",") != "wording,upper,probs" ||
+		!strings.Contains(string(change.Before), q.Wording) || !strings.Contains(string(change.After), next.Wording) {
+		t.Fatalf("edit event %+v (detail %s)", ev, ev.Detail)
+	}
+
+	// Once answered, only the wording, quantity and units.
+	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID,
+		Answer: elicit.Answer{Values: []float64{0.05, 0.1, 0.2}}}))
+	locked := got
+	locked.Upper = 0.9
+	var ie *elicit.InputError
+	if err := db.EditQuestion(ctx, locked, "widen"); !errors.As(err, &ie) || ie.Field != "upper" || ie.Rule != elicit.RuleLockedAfterAnswers {
+		t.Fatalf("changing the bounds after an answer: %v, want upper locked", err)
+	}
+	if again, _ := db.Question(ctx, q.ID); again.Upper != 0.5 {
+		t.Fatalf("a refused correction changed the question: %+v", again)
+	}
+	text := got
+	text.Quantity = "first-year seal failure share"
+	text.Units = "share of seals"
+	must(t, db.EditQuestion(ctx, text, "clearer name"))
+	if again, _ := db.Question(ctx, q.ID); again.Quantity != text.Quantity || again.Units != text.Units {
+		t.Fatalf("text correction after answers not saved: %+v", again)
+	}
+	if err := db.EditQuestion(ctx, text, "again"); !errors.As(err, &ie) || ie.Rule != elicit.RuleNothingChanged {
+		t.Fatalf("an edit that changes nothing: %v", err)
+	}
+}
+
+func TestRetireAndRestoreQuestion(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := p.qs[0]
+	must(t, db.SetQuestionRetired(ctx, q.ID, true, "asked twice by mistake"))
+	if got, _ := db.Question(ctx, q.ID); !got.Retired {
+		t.Fatal("not retired")
+	}
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventQuestionRetired || ev.Reason != "asked twice by mistake" {
+		t.Fatalf("retire event %+v", ev)
+	}
+	err := db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)})
+	if !errors.Is(err, elicit.ErrRetired) {
+		t.Fatalf("save to a retired question: %v", err)
+	}
+	must(t, db.SetQuestionRetired(ctx, q.ID, false, "needed after all"))
+	if got, _ := db.Question(ctx, q.ID); got.Retired {
+		t.Fatal("not restored")
+	}
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventQuestionRestored {
+		t.Fatalf("restore event %+v", ev)
+	}
+}
+
+func TestReopenRound(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	var ie *elicit.InputError
+	if err := db.ReopenRound(ctx, p.w.ID, "x"); !errors.As(err, &ie) {
+		t.Fatalf("reopening an open round: %v", err)
+	}
+	must(t, db.SetRound(ctx, p.w.ID, 1, false, "closed by mistake"))
+	must(t, db.ReopenRound(ctx, p.w.ID, "two experts were still typing"))
+	w, _ := db.Workshop(ctx, p.w.ID)
+	if !w.Open || w.Round != 1 {
+		t.Fatalf("after reopening: round %d open %v", w.Round, w.Open)
+	}
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventRoundReopened || ev.Detail != `{"round":1}` {
+		t.Fatalf("reopen event %+v", ev)
+	}
+	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
+}
+
+func TestArchiveAndDelete(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
+	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsEqual, Reason: "start"}))
+
+	// A workshop with answers cannot be deleted.
+	var ie *elicit.InputError
+	if err := db.DeleteWorkshop(ctx, p.w.ID, "oops"); !errors.As(err, &ie) || ie.Rule != elicit.RuleHasAnswers {
+		t.Fatalf("deleting a workshop with answers: %v", err)
+	}
+	// It is archived instead: the round closes, saves stop, rounds stay shut.
+	must(t, db.SetArchived(ctx, p.w.ID, true, "workshop finished"))
+	w, _ := db.Workshop(ctx, p.w.ID)
+	if !w.Archived || w.Open {
+		t.Fatalf("archived workshop: %+v", w)
+	}
+	err := db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)})
+	if !errors.Is(err, elicit.ErrRoundClosed) {
+		t.Fatalf("save to an archived workshop: %v", err)
+	}
+	if err := db.SetRound(ctx, p.w.ID, 2, true, "more"); !errors.As(err, &ie) || ie.Rule != elicit.RuleArchived {
+		t.Fatalf("opening a round of an archived workshop: %v", err)
+	}
+	if err := db.ReopenRound(ctx, p.w.ID, "more"); !errors.As(err, &ie) || ie.Rule != elicit.RuleArchived {
+		t.Fatalf("reopening a round of an archived workshop: %v", err)
+	}
+	evs, _ := db.Events(ctx, p.w.ID)
+	if n := len(evs); evs[n-2].Kind != elicit.EventRoundClosed || evs[n-1].Kind != elicit.EventWorkshopArchived {
+		t.Fatalf("archive events: %+v", evs[n-2:])
+	}
+	must(t, db.SetArchived(ctx, p.w.ID, false, "one more question"))
+	if w, _ := db.Workshop(ctx, p.w.ID); w.Archived || w.Open {
+		t.Fatalf("restored workshop: %+v", w)
+	}
+
+	// A workshop with no answers is deleted outright, with its tombstone;
+	// other workshops keep every row.
+	empty := seed(t, db)
+	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: empty.w.ID, Scheme: elicit.WeightsEqual, Reason: "start"}))
+	token := []byte("hash-" + "x")
+	e := elicit.Expert{WorkshopID: empty.w.ID, Name: "Late"}
+	must(t, db.AddExpert(ctx, &e, token))
+	before, _ := db.Events(ctx, p.w.ID)
+	must(t, db.DeleteWorkshop(ctx, empty.w.ID, "created twice by mistake"))
+	if _, err := db.Workshop(ctx, empty.w.ID); !errors.Is(err, elicit.ErrNotFound) {
+		t.Fatalf("deleted workshop still read: %v", err)
+	}
+	if _, err := db.ExpertByToken(ctx, token); !errors.Is(err, elicit.ErrNotFound) {
+		t.Fatalf("a deleted workshop's expert link still works: %v", err)
+	}
+	for _, table := range []string{"questions", "experts", "events", "weight_sets", "panel_salts"} {
+		var n int
+		if err := db.r.QueryRowContext(ctx, "SELECT COUNT(*) FROM "+table+" WHERE workshop_id = ?", empty.w.ID).Scan(&n); err != nil {
+			t.Fatal(err)
+		}
+		if n != 0 {
+			t.Errorf("%d rows left in %s", n, table)
+		}
+	}
+	dels, err := db.DeletedWorkshops(ctx)
+	if err != nil || len(dels) != 1 || dels[0].Title != empty.w.Title || dels[0].Reason != "created twice by mistake" {
+		t.Fatalf("deleted workshops: %+v, %v", dels, err)
+	}
+	after, _ := db.Events(ctx, p.w.ID)
+	if len(after) != len(before) {
+		t.Fatalf("deleting one workshop changed another's events")
+	}
+	// Outside a deletion the record stays append-only.
+	if _, err := db.w.ExecContext(ctx, `DELETE FROM events WHERE workshop_id = ?`, p.w.ID); err == nil {
+		t.Fatal("events of a workshop were deleted outside a deletion")
+	}
+	if _, err := db.w.ExecContext(ctx, `DELETE FROM weight_sets`); err == nil {
+		t.Fatal("weight sets were deleted outside a deletion")
+	}
+}
+
+func TestWithholdReason(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	rv := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3),
+		Reason: "As Dr Example at the plant told me privately (invented)"}
+	must(t, db.SaveRevision(ctx, &rv))
+	plain := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)}
+	must(t, db.SaveRevision(ctx, &plain))
+	var ie *elicit.InputError
+	if err := db.SetReasonWithheld(ctx, rv.ID, true, ""); !errors.As(err, &ie) || ie.Field != "reason" {
+		t.Fatalf("withholding without a reason: %v", err)
+	}
+	if err := db.SetReasonWithheld(ctx, plain.ID, true, "x"); !errors.As(err, &ie) {
+		t.Fatalf("withholding an empty reason: %v", err)
+	}
+	must(t, db.SetReasonWithheld(ctx, rv.ID, true, "names a person"))
+	revs, _ := db.LatestRevisions(ctx, p.qs[0].ID, 1)
+	if !revs[0].ReasonWithheld || revs[0].Reason != rv.Reason || revs[1].ReasonWithheld {
+		t.Fatalf("withheld state read back as %+v", revs)
+	}
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventReasonWithheld || ev.Detail != `{"revision_id":`+itoa(rv.ID)+`}` {
+		t.Fatalf("withhold event %+v", ev)
+	}
+	must(t, db.SetReasonWithheld(ctx, rv.ID, false, "the person agreed to be named"))
+	revs, _ = db.Revisions(ctx, p.w.ID)
+	if revs[0].ReasonWithheld {
+		t.Fatal("a released reason is still withheld")
+	}
+}

@@ -1,0 +1,5 @@
+package store
+
+import "strconv"
+
+func itoa(n int64) string { return strconv.FormatInt(n, 10) }

@@ -1,0 +1,289 @@
+package web
+
+import (
+	"context"
+	"encoding/json"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func lastEvent(t *testing.T, h *harness, ws int64) elicit.Event {
+	t.Helper()
+	evs, err := h.db.Events(context.Background(), ws)
+	if err != nil || len(evs) == 0 {
+		t.Fatalf("events: %v", err)
+	}
+	return evs[len(evs)-1]
+}
+
+// A question is corrected through its form: all of it before anyone
+// answers, its text after; each correction is an event with its reason,
+// and the record keeps the earlier text.
+func TestCorrectQuestion(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Corrections (invented)")
+	wp := workshopPath(ws.ID)
+	if r, body := h.post(wp+"/questions", url.Values{"wording": {"What shre of pumps fail?"}, "quantity": {"pump failure share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add question: %d %s", r.StatusCode, body)
+	}
+	qs, _ := h.db.Questions(context.Background(), ws.ID)
+	q := qs[0]
+	edit := questionPath(ws.ID, q.ID) + "/edit"
+	if r, body := h.get(edit); r.StatusCode != http.StatusOK || !strings.Contains(body, "any part of it can be corrected") || !strings.Contains(body, `name="upper"`) {
+		t.Fatalf("edit form before answers: %d", r.StatusCode)
+	}
+	full := url.Values{"wording": {"What share of pumps fail in year one?"}, "quantity": {"pump failure share"},
+		"lower": {"0"}, "upper": {"0.5"}, "format": {"quantiles"}, "preset": {"quartiles"}}
+	// The reason is required, and nothing is saved without it.
+	if r, body := h.post(edit, full); r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "Reason for the correction") {
+		t.Fatalf("correction without a reason: %d", r.StatusCode)
+	}
+	if got, _ := h.db.Question(context.Background(), q.ID); got.Upper != 1 {
+		t.Fatal("a refused correction was saved")
+	}
+	full.Set("reason", "Typo in the wording; the range was too wide.")
+	if r, body := h.post(edit, full); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("correction: %d %s", r.StatusCode, body)
+	}
+	got, _ := h.db.Question(context.Background(), q.ID)
+	if got.Wording != "What share of pumps fail in year one?" || got.Upper != 0.5 || got.Probs[0] != 0.25 {
+		t.Fatalf("corrected question: %+v", got)
+	}
+	ev := lastEvent(t, h, ws.ID)
+	if ev.Kind != elicit.EventQuestionEdited || !strings.Contains(ev.Detail, "What shre of pumps fail?") || ev.Reason == "" {
+		t.Fatalf("correction event %+v", ev)
+	}
+	if _, body := h.get(wp + "/log"); !strings.Contains(body, "Question corrected") || !strings.Contains(body, "wording was “What shre of pumps fail?”") {
+		t.Error("the decision log does not show the earlier wording")
+	}
+
+	// After an answer: the form locks what answers depend on, and a
+	// forged post changing the bounds is refused naming the field.
+	e, token := h.addExpert(ws, "Early Answerer")
+	_ = e
+	if r, _ := h.post(expertPath(token)+"q/"+strconv.FormatInt(q.ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("answer: %d", r.StatusCode)
+	}
+	if _, body := h.get(edit); !strings.Contains(body, "so its bounds, format") || strings.Contains(body, `name="upper"`) {
+		t.Error("the edit form after an answer still offers the bounds")
+	}
+	locked := url.Values{"wording": {"What share of pumps fail in their first year?"}, "quantity": {"first-year pump failure share"},
+		"units": {"share of pumps"}, "reason": {"Clearer wording."}}
+	if r, body := h.post(edit, locked); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("text correction after answers: %d %s", r.StatusCode, body)
+	}
+	got, _ = h.db.Question(context.Background(), q.ID)
+	if got.Quantity != "first-year pump failure share" || got.Upper != 0.5 {
+		t.Fatalf("after the text correction: %+v", got)
+	}
+	// Bounds in the post are not read once answered; the store would
+	// refuse them anyway (store tests).
+	locked.Set("upper", "0.9")
+	locked.Set("wording", "What share of pumps fail within a year?")
+	if r, _ := h.post(edit, locked); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("second text correction: %d", r.StatusCode)
+	}
+	if got, _ := h.db.Question(context.Background(), q.ID); got.Upper != 0.5 {
+		t.Fatal("a correction after answers changed the bounds")
+	}
+	// The record keeps every earlier text in its events.
+	_, body := h.get(wp + "/export.json")
+	var rec elicit.Record
+	if err := json.Unmarshal([]byte(body), &rec); err != nil {
+		t.Fatal(err)
+	}
+	var edits int
+	for _, e := range rec.Events {
+		if e.Kind == elicit.EventQuestionEdited {
+			edits++
+		}
+	}
+	if edits != 3 || !strings.Contains(body, "What shre of pumps fail?") || !strings.Contains(body, "pump failure share") {
+		t.Errorf("the record has %d corrections and lacks the earlier texts", edits)
+	}
+}
+
+// A retired question leaves the experts' pages, is refused to them, and
+// is marked in the report; it can be brought back.
+func TestRetireQuestion(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	q := qs[0]
+	retire := questionPath(ws.ID, q.ID) + "/retire"
+	if r, _ := h.post(retire, url.Values{"action": {"retire"}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("retire without a reason: %d", r.StatusCode)
+	}
+	if r, _ := h.post(retire, url.Values{"action": {"retire"}, "retire_reason": {"Asked twice (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("retire: %d", r.StatusCode)
+	}
+	if ev := lastEvent(t, h, ws.ID); ev.Kind != elicit.EventQuestionRetired || ev.Reason != "Asked twice (invented)." {
+		t.Fatalf("retire event %+v", ev)
+	}
+	_, home := h.get(links[0].Path)
+	if strings.Contains(home, q.Wording) {
+		t.Error("a retired question is still on the expert's page")
+	}
+	qp := links[0].Path + "q/" + strconv.FormatInt(q.ID, 10)
+	if r, body := h.get(qp); r.StatusCode != http.StatusGone || !strings.Contains(body, "withdrawn") {
+		t.Errorf("a retired question's page: %d", r.StatusCode)
+	}
+	before, _ := h.db.Revisions(context.Background(), ws.ID)
+	if r, _ := h.post(qp+"/save", url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusGone {
+		t.Errorf("a save to a retired question: %d", r.StatusCode)
+	}
+	if after, _ := h.db.Revisions(context.Background(), ws.ID); len(after) != len(before) {
+		t.Fatal("a save to a retired question was written")
+	}
+	if _, body := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(body, "Retired by the facilitator") {
+		t.Error("the report does not mark the retired question")
+	}
+	if r, _ := h.post(retire, url.Values{"action": {"restore"}, "retire_reason": {"Needed after all (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("restore: %d", r.StatusCode)
+	}
+	if _, home := h.get(links[0].Path); !strings.Contains(home, q.Wording) {
+		t.Error("a restored question is not back on the expert's page")
+	}
+}
+
+// A round closed by mistake is reopened with a reason; saves go on.
+func TestReopenRound(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	wp := workshopPath(ws.ID)
+	if r, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatal("close")
+	}
+	if _, body := h.get(wp); !strings.Contains(body, "Reopen round 1") {
+		t.Fatal("the overview of a closed round does not offer to reopen it")
+	}
+	if r, _ := h.post(wp+"/round", url.Values{"action": {"reopen"}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("reopen without a reason: %d", r.StatusCode)
+	}
+	if r, _ := h.post(wp+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"Closed by mistake (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reopen: %d", r.StatusCode)
+	}
+	if w, _ := h.db.Workshop(context.Background(), ws.ID); !w.Open || w.Round != 1 {
+		t.Fatalf("after reopening: %+v", w)
+	}
+	if ev := lastEvent(t, h, ws.ID); ev.Kind != elicit.EventRoundReopened || ev.Reason != "Closed by mistake (invented)." {
+		t.Fatalf("reopen event %+v", ev)
+	}
+	if r, _ := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save after reopening: %d", r.StatusCode)
+	}
+	// An open round cannot be reopened.
+	if r, _ := h.post(wp+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"again"}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("reopening an open round: %d", r.StatusCode)
+	}
+}
+
+// A workshop with answers is archived, not deleted; an archived workshop
+// refuses changes until brought back; one without answers is deleted
+// after a confirmation, leaving a line in the list.
+func TestArchiveAndDeleteWorkshop(t *testing.T) {
+	h, ws, _, _, links := seeded(t)
+	wp := workshopPath(ws.ID)
+	if _, body := h.get(wp + "/delete"); !strings.Contains(body, "cannot be deleted") || strings.Contains(body, `name="confirm"`) {
+		t.Error("the delete page of a workshop with answers offers to delete it")
+	}
+	if r, _ := h.post(wp+"/delete", url.Values{"reason": {"x"}, "confirm": {"on"}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("deleting a workshop with answers: %d", r.StatusCode)
+	}
+	if r, _ := h.post(wp+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Workshop finished (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d", r.StatusCode)
+	}
+	w, _ := h.db.Workshop(context.Background(), ws.ID)
+	if !w.Archived || w.Open {
+		t.Fatalf("archived workshop: %+v", w)
+	}
+	if _, body := h.get("/"); !strings.Contains(body, "<h2>Archived</h2>") {
+		t.Error("the workshop list has no archived section")
+	}
+	// Changes are refused, expert saves too.
+	if r, body := h.post(wp+"/edit", url.Values{"title": {"Renamed"}}); r.StatusCode != http.StatusConflict || !strings.Contains(body, "archived") {
+		t.Errorf("editing an archived workshop: %d", r.StatusCode)
+	}
+	if r, _ := h.post(links[0].Path+"q/1/save", url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusConflict {
+		t.Errorf("an expert's save to an archived workshop: %d", r.StatusCode)
+	}
+	if r, _ := h.post(wp+"/archive", url.Values{"action": {"restore"}, "archive_reason": {"One more question (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("bring back: %d", r.StatusCode)
+	}
+	if r, _ := h.post(wp+"/edit", url.Values{"title": {"Renamed (invented)"}}); r.StatusCode != http.StatusSeeOther {
+		t.Errorf("editing a workshop brought back: %d", r.StatusCode)
+	}
+
+	// A workshop nobody answered is deleted after confirmation.
+	empty := h.newWorkshop("Made by mistake (invented)")
+	ep := workshopPath(empty.ID)
+	_, tok := h.addExpert(empty, "Not Needed")
+	if _, body := h.get(ep); !strings.Contains(body, "Delete this workshop") {
+		t.Error("an unanswered workshop's overview does not offer deletion")
+	}
+	if r, _ := h.post(ep+"/delete", url.Values{"reason": {"Created twice."}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("delete without the confirmation: %d", r.StatusCode)
+	}
+	if r, _ := h.post(ep+"/delete", url.Values{"reason": {"Created twice."}, "confirm": {"on"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("delete: %d", r.StatusCode)
+	}
+	if r, _ := h.get(ep); r.StatusCode != http.StatusNotFound {
+		t.Errorf("a deleted workshop's page: %d", r.StatusCode)
+	}
+	if r, _ := h.get(expertPath(tok)); r.StatusCode != http.StatusNotFound {
+		t.Errorf("a deleted workshop's expert link: %d", r.StatusCode)
+	}
+	if _, body := h.get("/"); !strings.Contains(body, "Made by mistake (invented)") || !strings.Contains(body, "Created twice.") {
+		t.Error("the workshop list does not say what was deleted and why")
+	}
+}
+
+// Adding an expert whose name is already on the panel is held back with
+// a warning until confirmed; the new link is shown after a redirect, so
+// reloading it adds nobody, and it is gone after issuedFor.
+func TestAddExpertDuplicateAndLinkPage(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Roster (invented)")
+	h.addExpert(ws, "Ada Quell")
+	count := func() int {
+		es, _ := h.db.Experts(context.Background(), ws.ID)
+		return len(es)
+	}
+	r, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {"  ada   QUELL "}})
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "is already on the panel") || !strings.Contains(body, `name="allow_duplicate"`) {
+		t.Fatalf("duplicate name: %d", r.StatusCode)
+	}
+	if count() != 1 {
+		t.Fatal("a duplicate was added without confirmation")
+	}
+	r, _ = h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {"Ada Quell"}, "allow_duplicate": {"on"}})
+	if r.StatusCode != http.StatusSeeOther || count() != 2 {
+		t.Fatalf("a confirmed duplicate: %d, %d experts", r.StatusCode, count())
+	}
+	page := r.Header.Get("Location")
+	_, first := h.get(page)
+	_, again := h.get(page)
+	m1, m2 := linkPattern.FindString(first), linkPattern.FindString(again)
+	if m1 == "" || m1 != m2 || count() != 2 {
+		t.Fatalf("reloading the link page: links %q and %q, %d experts", m1, m2, count())
+	}
+	h.srv.now = func() time.Time { return time.Now().Add(issuedFor + time.Minute) }
+	if _, late := h.get(page); strings.Contains(late, m1) || !strings.Contains(late, "can no longer be shown") {
+		t.Error("the link is still shown after it expired")
+	}
+	// Another workshop's link page does not show it.
+	h.srv.now = time.Now
+	other := h.newWorkshop("Other (invented)")
+	forged := strings.Replace(page, workshopPath(ws.ID), workshopPath(other.ID), 1)
+	if _, body := h.get(forged); strings.Contains(body, m1) {
+		t.Error("the link page shows a link under another workshop's address")
+	}
+}

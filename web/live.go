@@ -1,0 +1,235 @@
+package web
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"net/http"
+	"strconv"
+	"strings"
+	"sync"
+	"time"
+
+	"github.com/go-chi/chi/v5"
+)
+
+// Live pages: the facilitator's overview, question panels and room view
+// follow a workshop's changes as they happen. Every change to a workshop
+// (an expert's save, a round closed or opened, a reveal, a decision) is
+// published on the server's liveHub; GET /w/{workshop}/events streams
+// them to the facilitator's browser as server-sent events, and
+// static/live.js fetches the page again and swaps its parts marked
+// data-live. Pages work without script; they just do not move.
+
+// liveEvent is one change to a workshop, as sent to the browser.
+type liveEvent struct {
+	Kind     string    `json:"kind"`               // "save", "round", "truth", "weights", "prior", ...
+	Question int64     `json:"question,omitempty"` // the question it concerns, if one
+	At       time.Time `json:"at"`
+}
+
+// maxStreams bounds the open event streams of the whole server. A stream
+// costs a goroutine and a connection, never a request turn (turns.go
+// serves only experts), so the bound is about connections: a room needs a
+// handful, a page left open in many tabs a few dozen.
+const maxStreams = 256
+
+// errTooManyStreams is returned when maxStreams are open.
+var errTooManyStreams = errors.New("too many open event streams")
+
+// liveHub fans a workshop's changes out to its open streams. Publishing
+// never blocks: each stream has room for one pending event, and a stream
+// that already has one pending misses nothing by skipping another, since
+// the browser fetches the whole page on either.
+type liveHub struct {
+	mu     sync.Mutex
+	subs   map[int64]map[chan liveEvent]struct{}
+	n      int
+	done   chan struct{}
+	closed bool
+}
+
+func newLiveHub() *liveHub {
+	return &liveHub{subs: map[int64]map[chan liveEvent]struct{}{}, done: make(chan struct{})}
+}
+
+// subscribe opens a stream of workshop's changes; cancel closes it.
+func (h *liveHub) subscribe(workshop int64) (ch chan liveEvent, cancel func(), err error) {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	if h.closed {
+		return nil, nil, http.ErrServerClosed
+	}
+	if h.n >= maxStreams {
+		return nil, nil, errTooManyStreams
+	}
+	ch = make(chan liveEvent, 1)
+	if h.subs[workshop] == nil {
+		h.subs[workshop] = map[chan liveEvent]struct{}{}
+	}
+	h.subs[workshop][ch] = struct{}{}
+	h.n++
+	return ch, func() {
+		h.mu.Lock()
+		defer h.mu.Unlock()
+		if _, ok := h.subs[workshop][ch]; ok {
+			delete(h.subs[workshop], ch)
+			h.n--
+		}
+	}, nil
+}
+
+// publish sends ev to every open stream of workshop, without waiting.
+func (h *liveHub) publish(workshop int64, kind string) {
+	h.publishEvent(workshop, liveEvent{Kind: kind, At: time.Now().UTC()})
+}
+
+func (h *liveHub) publishEvent(workshop int64, ev liveEvent) {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	for ch := range h.subs[workshop] {
+		select {
+		case ch <- ev:
+		default: // one is pending already
+		}
+	}
+}
+
+// streams is the number of open streams.
+func (h *liveHub) streams() int {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	return h.n
+}
+
+// close ends every stream, for a server shutting down: open streams are
+// active requests, which a graceful shutdown would otherwise wait for.
+func (h *liveHub) close() {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	if !h.closed {
+		h.closed = true
+		close(h.done)
+	}
+}
+
+// EndStreams ends every open event stream so that a graceful shutdown
+// need not wait for them; wire it to http.Server.RegisterOnShutdown.
+func (s *Server) EndStreams() { s.live.close() }
+
+// heartbeat is how often an idle stream sends a comment, so that the
+// browser and anything between notice a dead connection.
+const heartbeat = 20 * time.Second
+
+// liveEvents streams the workshop's changes to the signed-in facilitator.
+// It is mounted behind requireFacilitatorStream: anyone else gets 404.
+func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	ch, cancel, err := s.live.subscribe(ws.ID)
+	if err != nil {
+		w.Header().Set("Retry-After", "10")
+		http.Error(w, "Parley has too many live pages open; this page will try again shortly.", http.StatusServiceUnavailable)
+		return
+	}
+	defer cancel()
+	rc := http.NewResponseController(w)
+	// A stream outlives the server's write timeout by design.
+	_ = rc.SetWriteDeadline(time.Time{})
+	h := w.Header()
+	h.Set("Content-Type", "text/event-stream; charset=utf-8")
+	h.Set("X-Accel-Buffering", "no")
+	w.WriteHeader(http.StatusOK)
+	if _, err := fmt.Fprint(w, "retry: 2000\n: Parley live changes of workshop "+strconv.FormatInt(ws.ID, 10)+"\n\n"); err != nil {
+		return
+	}
+	if rc.Flush() != nil {
+		return
+	}
+	tick := time.NewTicker(heartbeat)
+	defer tick.Stop()
+	for {
+		select {
+		case <-r.Context().Done():
+			return
+		case <-s.live.done:
+			return
+		case <-tick.C:
+			if _, err := fmt.Fprint(w, ": still here\n\n"); err != nil || rc.Flush() != nil {
+				return
+			}
+		case ev := <-ch:
+			b, _ := json.Marshal(ev)
+			if _, err := fmt.Fprintf(w, "event: change\ndata: %s\n\n", b); err != nil || rc.Flush() != nil {
+				return
+			}
+		}
+	}
+}
+
+// requireFacilitatorStream lets only a signed-in facilitator open a
+// stream. Anyone else, an expert's browser included, gets a bare 404:
+// a redirect to the sign-in page would only make EventSource retry.
+func (s *Server) requireFacilitatorStream(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		ok, err := s.signedIn(r)
+		if err != nil || !ok {
+			s.notFound(w, r)
+			return
+		}
+		next.ServeHTTP(w, r)
+	})
+}
+
+// statusRecorder notes the status a handler answered with.
+type statusRecorder struct {
+	http.ResponseWriter
+	status int
+}
+
+func (sr *statusRecorder) WriteHeader(code int) {
+	if sr.status == 0 {
+		sr.status = code
+	}
+	sr.ResponseWriter.WriteHeader(code)
+}
+
+func (sr *statusRecorder) Write(b []byte) (int, error) {
+	if sr.status == 0 {
+		sr.status = http.StatusOK
+	}
+	return sr.ResponseWriter.Write(b)
+}
+
+func (sr *statusRecorder) Unwrap() http.ResponseWriter { return sr.ResponseWriter }
+
+// publishChanges publishes every facilitator change to a workshop that
+// succeeded: a POST under /w/{workshop} answered below 400. The kind is
+// the last part of its path ("round", "weights", "agree", ...).
+func (s *Server) publishChanges(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		if r.Method != http.MethodPost {
+			next.ServeHTTP(w, r)
+			return
+		}
+		sr := &statusRecorder{ResponseWriter: w}
+		next.ServeHTTP(sr, r)
+		if sr.status == 0 || sr.status >= 400 {
+			return
+		}
+		id, err := strconv.ParseInt(chi.URLParam(r, "workshop"), 10, 64)
+		if err != nil {
+			return
+		}
+		ev := liveEvent{Kind: r.URL.Path[strings.LastIndexByte(r.URL.Path, '/')+1:], At: time.Now().UTC()}
+		if rest, ok := strings.CutPrefix(r.URL.Path, workshopPath(id)+"/q/"); ok {
+			ev.Question, _ = strconv.ParseInt(strings.SplitN(rest, "/", 2)[0], 10, 64)
+		}
+		if rest, ok := strings.CutPrefix(r.URL.Path, workshopPath(id)+"/calibration/q/"); ok {
+			ev.Question, _ = strconv.ParseInt(rest, 10, 64)
+		}
+		s.live.publishEvent(id, ev)
+	})
+}

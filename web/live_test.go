@@ -1,0 +1,210 @@
+package web
+
+import (
+	"bufio"
+	"context"
+	"encoding/json"
+	"errors"
+	"net/http"
+	"net/url"
+	"runtime"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+)
+
+// stream is an open event stream read line by line.
+type stream struct {
+	res    *http.Response
+	events chan liveEvent
+}
+
+// openStream opens GET path as the harness's client (with its cookies).
+func (h *harness) openStream(t *testing.T, path string) (*http.Response, *stream) {
+	t.Helper()
+	ctx, cancel := context.WithCancel(context.Background())
+	t.Cleanup(cancel)
+	req, _ := http.NewRequestWithContext(ctx, http.MethodGet, h.ts.URL+path, nil)
+	req.Header.Set("Accept", "text/event-stream")
+	res, err := h.client.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { res.Body.Close() })
+	if res.StatusCode != http.StatusOK {
+		return res, nil
+	}
+	st := &stream{res: res, events: make(chan liveEvent, 64)}
+	go func() {
+		defer close(st.events)
+		sc := bufio.NewScanner(res.Body)
+		var kind string
+		for sc.Scan() {
+			line := sc.Text()
+			switch {
+			case strings.HasPrefix(line, "event: "):
+				kind = strings.TrimPrefix(line, "event: ")
+			case strings.HasPrefix(line, "data: ") && kind == "change":
+				var ev liveEvent
+				if json.Unmarshal([]byte(strings.TrimPrefix(line, "data: ")), &ev) == nil {
+					st.events <- ev
+				}
+			case line == "":
+				kind = ""
+			}
+		}
+	}()
+	return res, st
+}
+
+// next waits up to limit for the next event.
+func (st *stream) next(t *testing.T, limit time.Duration, what string) liveEvent {
+	t.Helper()
+	select {
+	case ev, ok := <-st.events:
+		if !ok {
+			t.Fatalf("%s: the stream ended", what)
+		}
+		return ev
+	case <-time.After(limit):
+		t.Fatalf("%s: no event within %v", what, limit)
+	}
+	return liveEvent{}
+}
+
+// The stream delivers an expert's save, and each facilitator change,
+// within the two seconds; other workshops' changes do not reach it.
+func TestEventStreamDeliversChanges(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	res, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if res.StatusCode != http.StatusOK || !strings.HasPrefix(res.Header.Get("Content-Type"), "text/event-stream") {
+		t.Fatalf("events: %d %q", res.StatusCode, res.Header.Get("Content-Type"))
+	}
+	// An expert's save.
+	expert := links[2].Path // Priya, who has not answered question 1
+	saved := time.Now()
+	if r, body := h.post(expert+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	ev := st.next(t, 2*time.Second, "the expert's save")
+	if ev.Kind != "save" || ev.Question != qs[0].ID {
+		t.Fatalf("save event %+v", ev)
+	}
+	t.Logf("save delivered %v after it", time.Since(saved).Round(time.Microsecond))
+
+	// A refused save sends nothing; a facilitator change does.
+	if r, _ := h.post(expert+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{"values[0]": {"x"}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("bad save: %d", r.StatusCode)
+	}
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close round: %d", r.StatusCode)
+	}
+	if ev := st.next(t, 2*time.Second, "closing the round"); ev.Kind != "round" {
+		t.Fatalf("after a refused save and a round change the next event is %+v, want the round", ev)
+	}
+	truth := calibrationPath(ws.ID) + "/q/" + strconv.FormatInt(qs[1].ID, 10)
+	if r, _ := h.post(truth, url.Values{"true_value": {"0.0413"}, "reveal": {"on"}, "reason": {"Shown (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reveal: %d", r.StatusCode)
+	}
+	if ev := st.next(t, 2*time.Second, "the reveal"); ev.Question != qs[1].ID {
+		t.Fatalf("reveal event %+v", ev)
+	}
+	// Another workshop's change is not this stream's.
+	other := h.newWorkshop("Other (invented)")
+	if r, _ := h.post(workshopPath(other.ID)+"/edit", url.Values{"title": {"Other, renamed (invented)"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("edit other: %d", r.StatusCode)
+	}
+	select {
+	case ev := <-st.events:
+		t.Fatalf("another workshop's change reached this stream: %+v", ev)
+	case <-time.After(300 * time.Millisecond):
+	}
+}
+
+// Only the signed-in facilitator can open a stream: an expert's token,
+// anywhere in the address, and a stranger get a bare 404.
+func TestEventStreamRefusesExperts(t *testing.T) {
+	h, ws, _, _, links := seeded(t)
+	tok := strings.TrimSuffix(strings.TrimPrefix(links[0].Path, "/e/"), "/")
+	stranger := newHarness(t)
+	stranger.ts.Close()
+	stranger.ts = h.ts // the same server, no session
+	for _, path := range []string{
+		workshopPath(ws.ID) + "/events",
+		workshopPath(ws.ID) + "/events?token=" + tok,
+		links[0].Path + "events",
+		links[0].Path + "w/" + strconv.FormatInt(ws.ID, 10) + "/events",
+	} {
+		res, st := stranger.openStream(t, path)
+		if res.StatusCode != http.StatusNotFound || st != nil {
+			t.Errorf("%s without a session: %d, want 404", path, res.StatusCode)
+		}
+	}
+}
+
+// Many open streams hold no request turns: experts' previews and saves
+// go on while they are open, and the server refuses streams beyond its
+// bound with 503 instead of running out of connections.
+func TestManyStreamsDoNotHoldExperts(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	var streams []*stream
+	for i := 0; i < 3*runtime.GOMAXPROCS(0)+8; i++ {
+		_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+		if st == nil {
+			t.Fatal("stream refused")
+		}
+		streams = append(streams, st)
+	}
+	q := links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)
+	form := url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}
+	if r, _ := h.post(q+"/preview?fragment=1", form); r.StatusCode != http.StatusOK {
+		t.Fatalf("preview with %d streams open: %d", len(streams), r.StatusCode)
+	}
+	if r, _ := h.post(q+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save with %d streams open: %d", len(streams), r.StatusCode)
+	}
+	for i, st := range streams {
+		if ev := st.next(t, 2*time.Second, "stream "+strconv.Itoa(i)); ev.Kind != "save" {
+			t.Fatalf("stream %d got %+v", i, ev)
+		}
+	}
+	if n := h.srv.live.streams(); n != len(streams) {
+		t.Fatalf("the hub counts %d streams, want %d", n, len(streams))
+	}
+	// Beyond the bound: 503 with Retry-After.
+	hub := newLiveHub()
+	for i := 0; i < maxStreams; i++ {
+		if _, _, err := hub.subscribe(1); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, _, err := hub.subscribe(1); !errors.Is(err, errTooManyStreams) {
+		t.Fatalf("stream %d: %v, want errTooManyStreams", maxStreams+1, err)
+	}
+}
+
+// A graceful shutdown ends open streams instead of waiting for them.
+func TestShutdownEndsStreams(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	hs := h.ts.Config
+	hs.RegisterOnShutdown(h.srv.EndStreams)
+	_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if st == nil {
+		t.Fatal("no stream")
+	}
+	ctx, cancel := context.WithTimeout(context.Background(), 10*time.Second)
+	defer cancel()
+	if err := hs.Shutdown(ctx); err != nil {
+		t.Fatalf("shutdown with a stream open: %v", err)
+	}
+	select {
+	case _, ok := <-st.events:
+		if ok {
+			t.Fatal("an event instead of the end")
+		}
+	case <-time.After(5 * time.Second):
+		t.Fatal("the stream did not end at shutdown")
+	}
+}

@@ -1,0 +1,179 @@
+package web
+
+import (
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// The room view: one question's anonymised panel for the projector while
+// the panel discusses it between rounds. It shows what the experts see in
+// their round feedback, under the same labels in the same order, and
+// nothing they do not: no names, no weights, no true value before the
+// reveal, and no link that leaves the room view.
+
+// roomView is what the room page shows.
+type roomView struct {
+	Title    string // the workshop's
+	Question elicit.Question
+	Index    int // the question's place among those shown, from 1
+	Of       int
+	Prev     string // the previous and next questions' room views, "" at the ends
+	Next     string
+	Events   string // the live stream
+	// Through is the round whose close the panel shows; State says so in
+	// words, and Progress how many answers the open round has so far.
+	Through  int
+	State    string
+	Progress string
+	Panel    *chart.PanelView
+	Spread   *chart.SpreadView
+	Medians  *chart.MedianStripView
+	Reasons  []feedbackReason
+	Truth    string // the revealed true value, "" before the reveal
+	Note     string // why there is no panel, when there is none
+}
+
+// roomRound is the round whose close the room shows: while a round is
+// open, the one before it (what the experts see now); once it closes, the
+// round just closed (what they will see in the next round).
+func roomRound(w elicit.Workshop) int {
+	if w.Open {
+		return w.Round - 1
+	}
+	return w.Round
+}
+
+func roomPath(ws, q int64) string { return questionPath(ws, q) + "/room" }
+
+func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := roomView{Title: ws.Title, Question: q, Events: workshopPath(ws.ID) + "/events", Through: roomRound(ws)}
+	var shown []elicit.Question
+	for _, x := range qs {
+		if !x.Retired || x.ID == q.ID {
+			shown = append(shown, x)
+		}
+	}
+	for i, x := range shown {
+		if x.ID != q.ID {
+			continue
+		}
+		v.Index, v.Of = i+1, len(shown)
+		if i > 0 {
+			v.Prev = roomPath(ws.ID, shown[i-1].ID)
+		}
+		if i+1 < len(shown) {
+			v.Next = roomPath(ws.ID, shown[i+1].ID)
+		}
+	}
+	if q.Frozen() && q.TrueValue != nil {
+		v.Truth = chart.FormatValue(*q.TrueValue)
+	}
+	if err := s.fillRoom(r, ws, q, &v); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	m := PageMeta{Title: "Room view · Q" + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
+		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
+	s.renderPage(w, r, http.StatusOK, m, roomPage(v))
+}
+
+// fillRoom reads the panel as roomRound's close and the open round's
+// progress into v.
+func (s *Server) fillRoom(r *http.Request, ws elicit.Workshop, q elicit.Question, v *roomView) error {
+	experts, err := s.store.Experts(r.Context(), ws.ID)
+	if err != nil {
+		return err
+	}
+	active := 0
+	for _, e := range experts {
+		if !e.Revoked {
+			active++
+		}
+	}
+	switch {
+	case ws.Open:
+		v.State = "Round " + strconv.Itoa(ws.Round) + " is open."
+		latest, err := s.store.LatestRevisions(r.Context(), q.ID, ws.Round)
+		if err != nil {
+			return err
+		}
+		revoked := map[int64]bool{}
+		for _, e := range experts {
+			revoked[e.ID] = e.Revoked
+		}
+		answered := 0
+		for _, rv := range latest {
+			if rv.Round == ws.Round && !revoked[rv.ExpertID] {
+				answered++
+			}
+		}
+		verb := "answered"
+		if ws.Round > 1 {
+			verb = "revised"
+		}
+		v.Progress = strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " experts have " + verb + " this question in round " + strconv.Itoa(ws.Round) + " so far."
+	default:
+		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
+	}
+	if q.Retired {
+		v.Note = "This question has been retired: experts no longer see it."
+		return nil
+	}
+	if v.Through == 0 {
+		v.Note = "The panel's answers appear here when round 1 closes, as every expert will see them in round 2."
+		return nil
+	}
+	fb, err := s.panelThrough(r, ws, q, v.Through)
+	if err != nil {
+		return err
+	}
+	if fb == nil {
+		v.Note = "Nobody had answered this question when round " + strconv.Itoa(v.Through) + " closed."
+		return nil
+	}
+	id := "room-q" + strconv.FormatInt(q.ID, 10)
+	var curves []chart.Curve
+	var dists []elicit.ScaledBeta
+	md := &chart.MedianStripView{ID: id + "-medians", Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	for _, m := range fb.members {
+		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
+		dists = append(dists, m.dist)
+		md.Labels = append(md.Labels, m.label)
+		md.Medians = append(md.Medians, m.dist.Quantile(0.5))
+	}
+	if q.Frozen() && q.TrueValue != nil {
+		t := *q.TrueValue
+		md.Truth = &t
+	}
+	v.Medians = md
+	if len(fb.members) > overlayLimit {
+		var pc []chart.Curve
+		if fb.poolErr == nil {
+			pc = append(pc, poolCurve(fb.pool))
+		}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists}
+	} else {
+		if fb.poolErr == nil {
+			curves = append(curves, poolCurve(fb.pool))
+		}
+		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
+	}
+	v.Reasons = fb.reasons(0)
+	return nil
+}
