@@ -140,6 +140,8 @@ const (
 	EventWorkshopRestored EventKind = "workshop_restored" // an archived workshop brought back
 	EventReasonWithheld   EventKind = "reason_withheld"   // a revision's reason kept from the feedback
 	EventReasonReleased   EventKind = "reason_released"   // a withheld reason shown again
+	EventWorkshopEdited   EventKind = "workshop_edited"   // detail: the fields before and after
+	EventTruthEntered     EventKind = "truth_entered"     // a true value entered or changed, still hidden
 )
 
 // EventKinds lists every event kind, in the order they were introduced.
@@ -148,6 +150,7 @@ var EventKinds = []EventKind{
 	EventTruthRevealed, EventExpertAdded, EventExpertRevoked, EventTokenReissued, EventQuestionAdded,
 	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
 	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
+	EventWorkshopEdited, EventTruthEntered,
 }
 
 // Event is one facilitator decision with its time and reason. Detail holds

@@ -223,3 +223,38 @@ func TestWithholdReason(t *testing.T) {
 		t.Fatal("a released reason is still withheld")
 	}
 }
+
+// Editing a workshop's details and entering a hidden true value are
+// events too; the hidden value is not in the event.
+func TestWorkshopEditAndHiddenTruthAreRecorded(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	w := p.w
+	w.Title = "Pump seal failures, renamed (invented)"
+	must(t, db.UpdateWorkshop(ctx, w))
+	ev := lastEvent(t, db, p.w.ID)
+	if ev.Kind != elicit.EventWorkshopEdited || !strings.Contains(ev.Detail, `"fields":["title"]`) ||
+		!strings.Contains(ev.Detail, "Pump seal failures (invented)") {
+		t.Fatalf("edit event %+v", ev)
+	}
+	n := len(mustEvents(t, db, p.w.ID))
+	must(t, db.UpdateWorkshop(ctx, w))
+	if len(mustEvents(t, db, p.w.ID)) != n {
+		t.Fatal("an edit that changed nothing was recorded")
+	}
+	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.2718, false, "from the audit"))
+	ev = lastEvent(t, db, p.w.ID)
+	if ev.Kind != elicit.EventTruthEntered || strings.Contains(ev.Detail+ev.Reason, "0.2718") {
+		t.Fatalf("hidden truth event %+v", ev)
+	}
+}
+
+func mustEvents(t *testing.T, db *DB, ws int64) []elicit.Event {
+	t.Helper()
+	evs, err := db.Events(context.Background(), ws)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return evs
+}

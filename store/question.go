@@ -128,7 +128,11 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			return fmt.Errorf("store: set true value: %w", err)
 		}
 		if !reveal {
-			return nil
+			// The value stays hidden, from the record too until the reveal,
+			// so the event says only that it was entered or changed.
+			return insertEvent(ctx, tx, elicit.Event{
+				WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: elicit.EventTruthEntered, At: now(), Reason: reason,
+			})
 		}
 		at := now()
 		if !q.Revealed {

@@ -3,6 +3,7 @@ package store
 import (
 	"context"
 	"database/sql"
+	"encoding/json"
 	"errors"
 	"fmt"
 
@@ -37,19 +38,43 @@ func (db *DB) CreateWorkshop(ctx context.Context, w *elicit.Workshop) error {
 	})
 }
 
-// UpdateWorkshop changes a workshop's title, purpose, decision and notes.
+// UpdateWorkshop changes a workshop's title, purpose, decision and notes,
+// recording EventWorkshopEdited with the changed fields before and after,
+// so the record keeps what the panel read before. Nothing changed is
+// nothing recorded.
 func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
-		res, err := tx.ExecContext(ctx,
+		old, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, w.ID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("workshop", w.ID)
+		}
+		if err != nil {
+			return err
+		}
+		before, after := map[string]string{}, map[string]string{}
+		var fields []string
+		for _, f := range []struct{ name, was, now string }{
+			{"title", old.Title, w.Title}, {"purpose", old.Purpose, w.Purpose},
+			{"decision", old.Decision, w.Decision}, {"notes", old.Notes, w.Notes},
+		} {
+			if f.was != f.now {
+				fields = append(fields, f.name)
+				before[f.name], after[f.name] = f.was, f.now
+			}
+		}
+		if len(fields) == 0 {
+			return nil
+		}
+		if _, err := tx.ExecContext(ctx,
 			`UPDATE workshops SET title = ?, purpose = ?, decision = ?, notes = ? WHERE id = ?`,
-			w.Title, w.Purpose, w.Decision, w.Notes, w.ID)
+			w.Title, w.Purpose, w.Decision, w.Notes, w.ID); err != nil {
+			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
+		}
+		detail, err := json.Marshal(map[string]any{"fields": fields, "before": before, "after": after})
 		if err != nil {
 			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
 		}
-		if n, _ := res.RowsAffected(); n == 0 {
-			return notFound("workshop", w.ID)
-		}
-		return nil
+		return insertEvent(ctx, tx, elicit.Event{WorkshopID: w.ID, Kind: elicit.EventWorkshopEdited, At: now(), Detail: string(detail)})
 	})
 }
 

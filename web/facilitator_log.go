@@ -85,6 +85,8 @@ var eventLabels = map[elicit.EventKind]string{
 	elicit.EventWorkshopRestored: "Workshop brought back",
 	elicit.EventReasonWithheld:   "Reason withheld from the feedback",
 	elicit.EventReasonReleased:   "Reason shown again in the feedback",
+	elicit.EventWorkshopEdited:   "Workshop details changed",
+	elicit.EventTruthEntered:     "True value entered (hidden)",
 }
 
 func eventLabel(k elicit.EventKind) string {
@@ -192,8 +194,10 @@ func (w eventWriter) sentence(e elicit.Event) string {
 			}
 			return s
 		}
-	case elicit.EventQuestionEdited:
+	case elicit.EventQuestionEdited, elicit.EventWorkshopEdited:
 		return correction(d)
+	case elicit.EventTruthEntered:
+		return "Entered or changed, and kept hidden from the experts until it is revealed."
 	case elicit.EventQuestionRetired:
 		return "Hidden from experts and left out of the scores; kept in the record."
 	case elicit.EventQuestionRestored:
