@@ -60,6 +60,8 @@ var (
 	// ErrRoundStillOpen is returned when a prior is agreed while the
 	// round is open and the facilitator has not confirmed it.
 	ErrRoundStillOpen = errors.New("the round is still open, so answers may still change")
+	// ErrRevoked is returned when a revoked expert's answer is saved.
+	ErrRevoked = errors.New("the expert's access has been revoked")
 	// ErrRetired is returned when an answer is saved to a retired question.
 	ErrRetired = errors.New("the question has been retired")
 )

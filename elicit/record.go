@@ -192,6 +192,9 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 			return Record{}, fmt.Errorf("elicit: record: revision %d: question %d: %w", rv.ID, rv.QuestionID, ErrNotFound)
 		}
 		rr := RecordRevision{Revision: rv}
+		if rr.EnteredBy == "" {
+			rr.EnteredBy = ByExpert // records older than the field were all the experts' own
+		}
 		if f, err := q.Fit(rv.Answer); err != nil {
 			rr.FitError = err.Error()
 		} else {
@@ -342,7 +345,7 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 // csvHeader names the columns of WriteCSV, one row per revision.
 var csvHeader = []string{
 	"workshop_id", "workshop", "question_id", "question", "expert_id", "expert",
-	"revision_id", "round", "at", "reason", "format", "stated",
+	"revision_id", "round", "at", "entered_by", "channel", "reason", "format", "stated",
 	"alpha", "beta", "lower", "upper", "sse", "max_prob_error", "p05", "p50", "p95", "warnings",
 }
 
@@ -370,7 +373,7 @@ func (r Record) WriteCSV(w io.Writer) error {
 			strconv.FormatInt(q.ID, 10), cell(q.Quantity),
 			strconv.FormatInt(rv.ExpertID, 10), cell(experts[rv.ExpertID]),
 			strconv.FormatInt(rv.ID, 10), strconv.Itoa(rv.Round), rv.At.UTC().Format(time.RFC3339Nano),
-			cell(rv.Reason), string(q.Format), stated(q.Format, rv.Answer),
+			string(rv.EnteredBy), string(rv.Channel), cell(rv.Reason), string(q.Format), stated(q.Format, rv.Answer),
 		}
 		if f := rv.Fit; f != nil {
 			codes := make([]string, len(f.Warnings))
@@ -549,6 +552,9 @@ func (r Record) Validate() error {
 		}
 		if err := checkText(p+".reason", rv.Reason, false, maxText); err != nil {
 			return err
+		}
+		if err := rv.CheckProvenance(); err != nil {
+			return under(p, err)
 		}
 		if _, err := q.Fit(rv.Answer); err != nil {
 			return under(p+".answer", err)

@@ -110,10 +110,64 @@ type Revision struct {
 	At         time.Time `json:"at"`
 	Reason     string    `json:"reason,omitempty"`
 	Answer     Answer    `json:"answer"`
+	// EnteredBy says who typed the revision into Parley: the expert on
+	// their own link, or the facilitator on their behalf (empty reads as
+	// the expert, as in records older than this field). Channel says how a
+	// facilitator's entry reached them.
+	EnteredBy EnteredBy `json:"entered_by"`
+	Channel   Channel   `json:"channel"`
 	// ReasonWithheld is set when the facilitator has withheld the reason
 	// from the round feedback: it stays in the record but no expert and no
 	// room view is shown it.
 	ReasonWithheld bool `json:"reason_withheld,omitempty"`
+}
+
+// EnteredBy names who typed a revision into Parley.
+type EnteredBy string
+
+// Who can enter a revision.
+const (
+	ByExpert      EnteredBy = "expert"
+	ByFacilitator EnteredBy = "facilitator"
+)
+
+// Channel is how a judgement entered by the facilitator reached them.
+type Channel string
+
+// The ways a judgement reaches the facilitator, in Parley's words.
+const (
+	ChannelInPerson  Channel = "in_person"  // said aloud in the session and typed by the facilitator
+	ChannelPhone     Channel = "phone"      // given by telephone or a call
+	ChannelPaperForm Channel = "paper_form" // written on a paper form
+	ChannelMessage   Channel = "message"    // sent in an e-mail or other message
+	ChannelFile      Channel = "file"       // sent in a spreadsheet file and imported
+)
+
+// Channels lists every channel, in the order a form offers them.
+var Channels = []Channel{ChannelInPerson, ChannelPhone, ChannelPaperForm, ChannelMessage, ChannelFile}
+
+// RuleProvenance is the rule for who entered a revision and how.
+const RuleProvenance Rule = "a revision is entered by the expert (no channel) or by the facilitator (with one of the channels)"
+
+// CheckProvenance checks a revision's EnteredBy and Channel: the expert's
+// own entries carry no channel; the facilitator's carry a known one.
+func (r Revision) CheckProvenance() error {
+	switch r.EnteredBy {
+	case "", ByExpert:
+		if r.Channel != "" {
+			return inputErr("channel", RuleProvenance, "the expert's own entry has no channel, got %q", r.Channel)
+		}
+	case ByFacilitator:
+		for _, c := range Channels {
+			if r.Channel == c {
+				return nil
+			}
+		}
+		return inputErr("channel", RuleProvenance, "%q is not one of %q", r.Channel, Channels)
+	default:
+		return inputErr("entered_by", RuleProvenance, "%q is neither %q nor %q", r.EnteredBy, ByExpert, ByFacilitator)
+	}
+	return nil
 }
 
 // EventKind names a facilitator decision.

@@ -5,6 +5,7 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -17,6 +18,12 @@ import (
 // exists, is not revoked and sits on that workshop's panel. It sets r's ID,
 // Round and At. The answer's content is elicit's to check, before saving.
 func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
+	if r.EnteredBy == "" {
+		r.EnteredBy = elicit.ByExpert
+	}
+	if err := r.CheckProvenance(); err != nil {
+		return err
+	}
 	values, err := marshalList(r.Answer.Values)
 	if err != nil {
 		return err
@@ -27,72 +34,111 @@ func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
 	}
 	at := now()
 	return db.writeRevision(ctx, func(tx *sql.Tx) error {
-		var (
-			workshopID            int64
-			round                 int
-			open, frozen, retired int
-		)
-		err := tx.QueryRowContext(ctx,
-			`SELECT w.id, w.round, w.round_open, q.calibration AND q.revealed, q.retired
-			 FROM questions q JOIN workshops w ON w.id = q.workshop_id
-			 WHERE q.id = ?`, r.QuestionID).Scan(&workshopID, &round, &open, &frozen, &retired)
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", r.QuestionID)
+		return saveRevision(ctx, tx, r, values, counts, at)
+	})
+}
+
+// saveRevision is SaveRevision's work inside tx.
+func saveRevision(ctx context.Context, tx *sql.Tx, r *elicit.Revision, values, counts string, at time.Time) error {
+	var (
+		workshopID            int64
+		round                 int
+		open, frozen, retired int
+	)
+	err := tx.QueryRowContext(ctx,
+		`SELECT w.id, w.round, w.round_open, q.calibration AND q.revealed, q.retired
+		 FROM questions q JOIN workshops w ON w.id = q.workshop_id
+		 WHERE q.id = ?`, r.QuestionID).Scan(&workshopID, &round, &open, &frozen, &retired)
+	if errors.Is(err, sql.ErrNoRows) {
+		return notFound("question", r.QuestionID)
+	}
+	if err != nil {
+		return fmt.Errorf("store: save revision: %w", err)
+	}
+	var (
+		expertWorkshop int64
+		revoked        int
+	)
+	err = tx.QueryRowContext(ctx, `SELECT workshop_id, revoked FROM experts WHERE id = ?`,
+		r.ExpertID).Scan(&expertWorkshop, &revoked)
+	if errors.Is(err, sql.ErrNoRows) {
+		return notFound("expert", r.ExpertID)
+	}
+	if err != nil {
+		return fmt.Errorf("store: save revision: %w", err)
+	}
+	if expertWorkshop != workshopID {
+		return fmt.Errorf("store: expert %d is not on the panel of workshop %d: %w",
+			r.ExpertID, workshopID, elicit.ErrNotFound)
+	}
+	if revoked == 1 {
+		return fmt.Errorf("store: expert %d: %w", r.ExpertID, ErrRevoked)
+	}
+	if retired == 1 {
+		return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrRetired)
+	}
+	if frozen == 1 {
+		return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrAnswersFrozen)
+	}
+	if open == 0 {
+		return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, elicit.ErrRoundClosed)
+	}
+	id, err := insertRevision(ctx, tx, elicit.Revision{
+		QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
+		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel,
+	}, values, counts)
+	if err != nil {
+		return err
+	}
+	r.ID, r.Round, r.At = id, round, at
+	return nil
+}
+
+// SaveRevisions appends several revisions in one transaction, each under
+// SaveRevision's rules: all are saved, or none (the error names the
+// index of the first refused, as "revisions[i]"). It is for judgements
+// the facilitator imports from a file.
+func (db *DB) SaveRevisions(ctx context.Context, rs []elicit.Revision) error {
+	type encoded struct{ values, counts string }
+	enc := make([]encoded, len(rs))
+	for i := range rs {
+		if rs[i].EnteredBy == "" {
+			rs[i].EnteredBy = elicit.ByExpert
 		}
-		if err != nil {
-			return fmt.Errorf("store: save revision: %w", err)
+		if err := rs[i].CheckProvenance(); err != nil {
+			return fmt.Errorf("revisions[%d]: %w", i, err)
 		}
-		var (
-			expertWorkshop int64
-			revoked        int
-		)
-		err = tx.QueryRowContext(ctx, `SELECT workshop_id, revoked FROM experts WHERE id = ?`,
-			r.ExpertID).Scan(&expertWorkshop, &revoked)
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("expert", r.ExpertID)
-		}
-		if err != nil {
-			return fmt.Errorf("store: save revision: %w", err)
-		}
-		if expertWorkshop != workshopID {
-			return fmt.Errorf("store: expert %d is not on the panel of workshop %d: %w",
-				r.ExpertID, workshopID, elicit.ErrNotFound)
-		}
-		if revoked == 1 {
-			return fmt.Errorf("store: expert %d: %w", r.ExpertID, ErrRevoked)
-		}
-		if retired == 1 {
-			return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrRetired)
-		}
-		if frozen == 1 {
-			return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrAnswersFrozen)
-		}
-		if open == 0 {
-			return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, elicit.ErrRoundClosed)
-		}
-		id, err := insertRevision(ctx, tx, elicit.Revision{
-			QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
-			Reason: r.Reason, Answer: r.Answer,
-		}, values, counts)
-		if err != nil {
+		var err error
+		if enc[i].values, err = marshalList(rs[i].Answer.Values); err != nil {
 			return err
 		}
-		r.ID, r.Round, r.At = id, round, at
+		if enc[i].counts, err = marshalList(rs[i].Answer.Counts); err != nil {
+			return err
+		}
+	}
+	at := now()
+	return db.writeRevision(ctx, func(tx *sql.Tx) error {
+		for i := range rs {
+			if err := saveRevision(ctx, tx, &rs[i], enc[i].values, enc[i].counts, at); err != nil {
+				return fmt.Errorf("revisions[%d]: %w", i, err)
+			}
+		}
 		return nil
 	})
 }
 
-// ErrRevoked is returned (wrapped) when a revoked expert tries to save.
-var ErrRevoked = errors.New("the expert's access has been revoked")
+// ErrRevoked is returned (wrapped) when a revoked expert tries to save;
+// it is elicit.ErrRevoked.
+var ErrRevoked = elicit.ErrRevoked
 
 func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, counts string) (int64, error) {
 	a := r.Answer
 	res, err := tx.ExecContext(ctx,
 		`INSERT INTO revisions (question_id, expert_id, round, at, reason,
-		 answer_values, lowest, highest, best, confidence, counts)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 answer_values, lowest, highest, best, confidence, counts, entered_by, channel)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		r.QuestionID, r.ExpertID, r.Round, formatTime(r.At), r.Reason,
-		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts)
+		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts, string(enteredBy(r.EnteredBy)), string(r.Channel))
 	if err != nil {
 		return 0, fmt.Errorf("store: save revision: %w", err)
 	}
@@ -114,4 +160,12 @@ func readRevisions(ctx context.Context, db querier, workshopID int64) ([]elicit.
 		`SELECT `+revisionColumns+`
 		 FROM revisions r JOIN questions q ON q.id = r.question_id
 		 WHERE q.workshop_id = ? ORDER BY r.id`, workshopID))
+}
+
+// enteredBy reads an empty EnteredBy, as in older records, as the expert.
+func enteredBy(b elicit.EnteredBy) elicit.EnteredBy {
+	if b == "" {
+		return elicit.ByExpert
+	}
+	return b
 }

@@ -73,6 +73,13 @@ type expertQuestionView struct {
 	// Reasons are the other experts' reasons from the feedback round,
 	// under the same labels as their curves; withheld ones are left out.
 	Reasons []feedbackReason
+	// EnteredNote says, when the expert's current answer was entered by
+	// the facilitator, when and from what ("was entered by the facilitator
+	// on … from your paper form").
+	EnteredNote string
+	// OnBehalf is set on the facilitator's page for entering this
+	// question's judgement for an expert.
+	OnBehalf *onBehalf
 	// Frozen is set once a calibration question's true value has been
 	// revealed: the expert's last answer is shown and cannot change.
 	Frozen bool
@@ -131,6 +138,8 @@ type historyRow struct {
 	Alpha  string
 	Beta   string
 	Values string
+	// EnteredNote is set for a revision the facilitator entered.
+	EnteredNote string
 }
 
 // chance says a probability the way people say odds: "1 in 20" when
@@ -406,6 +415,9 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 // the one form parser, then fits it with elicit, which applies the
 // judgement's own rules. Errors land beside the fields they name.
 func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
+	// Errors of other fields (a reason, a channel) do not stop the
+	// answer's own rules from being checked: every error shows at once.
+	before := len(f.Errors)
 	var a elicit.Answer
 	switch q.Format {
 	case elicit.FormatInterval:
@@ -424,7 +436,7 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 			a.Values[i] = f.Float(fmt.Sprintf("values[%d]", i))
 		}
 	}
-	if !f.OK() {
+	if len(f.Errors) > before {
 		return a, elicit.Fit{}, false
 	}
 	fit, err := q.Fit(a)
@@ -593,6 +605,10 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	for i := len(sc.own) - 1; i >= 0; i-- {
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
+	if n := len(sc.own); n > 0 && sc.own[n-1].EnteredBy == elicit.ByFacilitator {
+		cur := sc.own[n-1]
+		v.EnteredNote = "was entered by the facilitator on " + cur.At.UTC().Format(timeLayout) + " " + channelForExpert(cur.Channel)
+	}
 	if v.FeedbackRound = sc.workshop.FeedbackRound(); v.FeedbackRound > 0 {
 		v.Panel, v.Spread, v.Reasons, v.PanelMissing = s.anonymousPanel(r, sc)
 	}
@@ -602,6 +618,9 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 func newHistoryRow(q elicit.Question, rv elicit.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
 		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
+	if rv.EnteredBy == elicit.ByFacilitator {
+		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
+	}
 	if fit, err := fits.fit(q, rv); err == nil {
 		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
 	}

@@ -22,6 +22,7 @@ import (
 //	POST /w/{workshop}/delete                delete it (reason required)
 //	POST /w/{workshop}/archive               action=archive|restore, reason required
 //	POST /w/{workshop}/experts               add an expert (a duplicate name needs confirming)
+//	GET  /w/{workshop}/experts/{expert}      one expert's answers, and entering them on their behalf
 //	GET  /w/{workshop}/experts/{expert}/link?k=…   the private link just issued, after the redirect
 //	POST /w/{workshop}/experts/{expert}/revoke   end an expert's access (confirm=yes, else a confirmation page)
 //	POST /w/{workshop}/experts/{expert}/reissue  new private link (old one stops working)
@@ -34,6 +35,8 @@ import (
 //	POST /w/{workshop}/q/{question}/retire   action=retire|restore, reason required
 //	POST /w/{workshop}/q/{question}/reasons/{revision}  action=withhold|release a reason from the feedback
 //	GET  /w/{workshop}/q/{question}/room     the anonymised panel for the projector
+//	GET  /w/{workshop}/q/{question}/enter/{expert}      enter a judgement on the expert's behalf (facilitator_entry.go)
+//	POST /w/{workshop}/q/{question}/enter/{expert}/preview|save
 //	POST /w/{workshop}/q/{question}/weights  scheme=equal|custom, weights[ID], reason
 //	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
 //	GET  /w/{workshop}/report                printable record
@@ -52,6 +55,7 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Post("/delete", s.deleteWorkshop)
 		r.Post("/archive", s.archiveWorkshop)
 		r.Post("/experts", s.addExpert)
+		r.Get("/experts/{expert}", s.expertPage)
 		r.Get("/experts/{expert}/link", s.issuedLinkPage)
 		r.Post("/experts/{expert}/revoke", s.revokeExpert)
 		r.Post("/experts/{expert}/reissue", s.reissueLink)
@@ -61,6 +65,10 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/q/{question}/edit", s.editQuestionForm)
 		r.Post("/q/{question}/edit", s.editQuestion)
 		r.Post("/q/{question}/retire", s.retireQuestion)
+		r.Get("/q/{question}/enter", s.chooseEntry)
+		r.Get("/q/{question}/enter/{expert}", s.entryPage)
+		r.Post("/q/{question}/enter/{expert}/preview", s.entryPreview)
+		r.Post("/q/{question}/enter/{expert}/save", s.entrySave)
 		r.Post("/q/{question}/reasons/{revision}", s.withholdReason)
 		r.Get("/q/{question}/room", s.roomView)
 		r.Post("/q/{question}/weights", s.setWeights)

@@ -1,0 +1,283 @@
+package web
+
+import (
+	"errors"
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// The facilitator enters or revises an expert's judgement on their
+// behalf: typed during the session, taken by phone, copied from a paper
+// form or a message. The form, the live preview, the read-backs and the
+// warnings are the expert's own (expertAnswerForm, readAnswer,
+// newPreview); the revision records that the facilitator entered it and
+// how it reached them. Round, calibration and input rules are the same
+// as on the expert's page, because the save goes through the same
+// store.SaveRevision.
+
+// onBehalf is what the answer form adds on the facilitator's page.
+type onBehalf struct {
+	Expert       string
+	Channel      string
+	ChannelError string
+}
+
+// entryView is the facilitator's page for entering one question's
+// judgement for one expert.
+type entryView struct {
+	Workshop elicit.Workshop
+	Question elicit.Question
+	Expert   elicit.Expert
+	Form     expertQuestionView
+	History  []elicit.Revision // the expert's revisions of the question, newest first
+	Saved    bool
+	Back     string // the question's panel
+}
+
+func entryPath(ws, q, e int64) string {
+	return questionPath(ws, q) + "/enter/" + strconv.FormatInt(e, 10)
+}
+
+// entryScope is what the entry handlers work on.
+type entryScope struct {
+	ws elicit.Workshop
+	q  elicit.Question
+	e  elicit.Expert
+}
+
+func (s *Server) loadEntry(w http.ResponseWriter, r *http.Request) (entryScope, bool) {
+	var sc entryScope
+	var ok bool
+	if sc.ws, ok = s.loadWorkshop(w, r); !ok {
+		return sc, false
+	}
+	if sc.q, ok = s.loadQuestion(w, r, sc.ws); !ok {
+		return sc, false
+	}
+	if sc.e, ok = s.loadExpert(w, r, sc.ws); !ok {
+		return sc, false
+	}
+	return sc, true
+}
+
+// chooseEntry sends the panel's "enter for" form (a GET with ?expert=ID)
+// to that expert's entry page.
+func (s *Server) chooseEntry(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	id, err := strconv.ParseInt(r.URL.Query().Get("expert"), 10, 64)
+	if err != nil || id <= 0 {
+		s.notFound(w, r)
+		return
+	}
+	http.Redirect(w, r, entryPath(ws.ID, q.ID, id), http.StatusSeeOther)
+}
+
+func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
+	sc, ok := s.loadEntry(w, r)
+	if !ok {
+		return
+	}
+	own, err := s.store.QuestionExpertRevisions(r.Context(), sc.q.ID, sc.e.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	var typed map[string]string
+	var preview *previewView
+	if n := len(own); n > 0 {
+		typed = answerValues(sc.q, own[n-1].Answer)
+		if fit, err := fits.fit(sc.q, own[n-1]); err == nil {
+			preview = newPreview(sc.q, fit)
+		}
+	}
+	v := s.entryView(sc, own, typed, "", string(elicit.ChannelInPerson))
+	v.Form.Preview = preview
+	v.Saved = r.URL.Query().Get("saved") == "1"
+	s.renderEntry(w, r, http.StatusOK, v)
+}
+
+// entryView lays out the page around the form with the typed values.
+func (s *Server) entryView(sc entryScope, own []elicit.Revision, typed map[string]string, reason, channel string) entryView {
+	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
+	fv := expertQuestionView{
+		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked,
+		Form:     newAnswerForm(sc.q, typed),
+		Frozen:   sc.q.Frozen(),
+		OnBehalf: &onBehalf{Expert: sc.e.Name, Channel: channel},
+	}
+	fv.Form.Reason = reason
+	if fv.Frozen {
+		if n := len(own); n > 0 {
+			fv.Form = newAnswerForm(sc.q, answerValues(sc.q, own[n-1].Answer))
+		}
+	}
+	v := entryView{Workshop: sc.ws, Question: sc.q, Expert: sc.e, Form: fv, Back: questionPath(sc.ws.ID, sc.q.ID)}
+	for i := len(own) - 1; i >= 0; i-- {
+		v.History = append(v.History, own[i])
+	}
+	return v
+}
+
+func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int, v entryView) {
+	m := facilitatorMeta(v.Workshop, "Q"+strconv.Itoa(v.Question.Position)+" for "+v.Expert.Name, "overview")
+	m.Scripts = []string{"/static/preview.js"}
+	s.renderPage(w, r, status, m, entryPageView(v))
+}
+
+// readEntry parses the form as the expert's page does, and the channel.
+func readEntry(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, elicit.Channel, bool) {
+	names := make([]string, len(elicit.Channels))
+	for i, c := range elicit.Channels {
+		names[i] = string(c)
+	}
+	channel := elicit.Channel(f.Choice("channel", "", names...))
+	a, fit, ok := readAnswer(q, f)
+	return a, fit, channel, ok && f.OK()
+}
+
+func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
+	sc, ok := s.loadEntry(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	_, fit, _, ok := readEntry(sc.q, f)
+	status := http.StatusOK
+	var p *previewView
+	if ok {
+		p = newPreview(sc.q, fit)
+	} else {
+		status = http.StatusUnprocessableEntity
+		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)}
+	}
+	if r.URL.Query().Get("fragment") == "1" {
+		s.render(w, r, status, expertPreview(p))
+		return
+	}
+	s.entryAgain(w, r, sc, f, status, "", p)
+}
+
+// entryAgain draws the page again with the typed values and messages.
+func (s *Server) entryAgain(w http.ResponseWriter, r *http.Request, sc entryScope, f *Form, status int, notice string, p *previewView) {
+	own, err := s.store.QuestionExpertRevisions(r.Context(), sc.q.ID, sc.e.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := s.entryView(sc, own, formValues(f), f.Value("reason"), f.Value("channel"))
+	if !v.Form.Frozen {
+		applyErrors(&v.Form.Form, f)
+		v.Form.OnBehalf.ChannelError = f.Error("channel")
+		v.Form.Preview = p
+	}
+	if notice != "" {
+		v.Form.Closed = notice
+	}
+	s.renderEntry(w, r, status, v)
+}
+
+// entrySave saves the judgement as a revision the facilitator entered.
+func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
+	sc, ok := s.loadEntry(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	reason := f.Text("reason", MaxLongText, false)
+	a, fit, channel, ok := readEntry(sc.q, f)
+	if sc.q.Frozen() {
+		s.entryAgain(w, r, sc, f, http.StatusConflict, "The true value of this question has been shown, so its answers are final and nothing was saved.", nil)
+		return
+	}
+	if !ok {
+		s.entryAgain(w, r, sc, f, http.StatusUnprocessableEntity, "", &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)})
+		return
+	}
+	rev := elicit.Revision{QuestionID: sc.q.ID, ExpertID: sc.e.ID, Reason: reason, Answer: a,
+		EnteredBy: elicit.ByFacilitator, Channel: channel}
+	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
+		var notice string
+		switch {
+		case errors.Is(err, elicit.ErrRoundClosed):
+			notice = "Round " + strconv.Itoa(sc.ws.Round) + " is closed, so nothing was saved. The values are kept below."
+		case errors.Is(err, elicit.ErrAnswersFrozen):
+			notice = "The true value of this question has been shown, so its answers are final and nothing was saved."
+		case errors.Is(err, elicit.ErrRetired):
+			notice = "This question is retired, so it takes no answers; nothing was saved."
+		case errors.Is(err, elicit.ErrRevoked):
+			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
+		default:
+			s.fail(w, r, err)
+			return
+		}
+		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit))
+		return
+	}
+	http.Redirect(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)+"?saved=1", http.StatusSeeOther)
+}
+
+func newPreviewPtr(q elicit.Question, fit elicit.Fit) *previewView {
+	if len(fit.Probs) == 0 {
+		return nil
+	}
+	return newPreview(q, fit)
+}
+
+// expertView is one expert's page for the facilitator: each question
+// with their current answer and who entered it, and the way to enter or
+// revise it on their behalf.
+type expertView struct {
+	Workshop elicit.Workshop
+	Expert   elicit.Expert
+	Rows     []expertViewRow
+}
+
+type expertViewRow struct {
+	Question elicit.Question
+	Current  *elicit.Revision
+	Enter    string
+}
+
+func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	e, ok := s.loadExpert(w, r, ws)
+	if !ok {
+		return
+	}
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := expertView{Workshop: ws, Expert: e}
+	for _, q := range qs {
+		if q.Retired {
+			continue
+		}
+		row := expertViewRow{Question: q, Enter: entryPath(ws.ID, q.ID, e.ID)}
+		for i := range revs {
+			if revs[i].QuestionID == q.ID {
+				row.Current = &revs[i]
+			}
+		}
+		v.Rows = append(v.Rows, row)
+	}
+	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, e.Name, "overview"), expertViewPage(v))
+}
