@@ -33,6 +33,12 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	must(t, db.SetRound(ctx, p.w.ID, 1, false, "discussion"))
 	must(t, db.SetRound(ctx, p.w.ID, 2, true, "second look"))
 	save(0, 0, quantileAnswer(0.35), "heard Bela")
+	// Bela's second round came by phone and the facilitator typed it; its
+	// reason names someone, so it is withheld from the feedback.
+	byPhone := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.38),
+		Reason: "as Dr Example said (invented)", EnteredBy: elicit.ByFacilitator, Channel: elicit.ChannelPhone}
+	must(t, db.SaveRevision(ctx, &byPhone))
+	must(t, db.SetReasonWithheld(ctx, byPhone.ID, true, "names a person"))
 	must(t, db.RevokeExpert(ctx, p.experts[2].ID, "left"))
 	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.28, true, "seed revealed"))
 	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom, Reason: "audits",
@@ -300,6 +306,40 @@ func TestBackupWhileSaving(t *testing.T) {
 	for i, r := range rs {
 		if r.ID != rs[0].ID+int64(i) {
 			t.Fatalf("copy's revisions skip from %d to %d", rs[i-1].ID, r.ID)
+		}
+	}
+}
+
+// A record written before revisions said who entered them imports, and
+// its revisions read as the experts' own.
+func TestImportRecordWithoutProvenance(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	raw := exportJSON(t, src, p.w.ID)
+	var doc map[string]any
+	if err := json.Unmarshal(raw, &doc); err != nil {
+		t.Fatal(err)
+	}
+	for _, r := range doc["revisions"].([]any) {
+		rv := r.(map[string]any)
+		delete(rv, "entered_by")
+		delete(rv, "channel")
+	}
+	old, _ := json.Marshal(doc)
+	rec, err := elicit.ParseRecord(bytes.NewReader(old))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dst := newDB(t)
+	id, err := dst.Import(ctx, rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	revs, _ := dst.Revisions(ctx, id)
+	for _, rv := range revs {
+		if rv.EnteredBy != elicit.ByExpert || rv.Channel != "" {
+			t.Fatalf("an older record's revision reads as %q %q", rv.EnteredBy, rv.Channel)
 		}
 	}
 }

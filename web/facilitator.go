@@ -21,6 +21,8 @@ import (
 //	GET  /w/{workshop}/delete                confirm deleting a workshop that has no answers
 //	POST /w/{workshop}/delete                delete it (reason required)
 //	POST /w/{workshop}/archive               action=archive|restore, reason required
+//	GET  /w/{workshop}/answers/import        import judgements from a CSV answer sheet (facilitator_sheet.go)
+//	POST /w/{workshop}/answers/import        check the sheet and preview every row; POST .../confirm saves it
 //	POST /w/{workshop}/experts               add an expert (a duplicate name needs confirming)
 //	GET  /w/{workshop}/experts/{expert}      one expert's answers, and entering them on their behalf
 //	GET  /w/{workshop}/experts/{expert}/link?k=…   the private link just issued, after the redirect
@@ -55,6 +57,9 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Post("/delete", s.deleteWorkshop)
 		r.Post("/archive", s.archiveWorkshop)
 		r.Post("/experts", s.addExpert)
+		r.Get("/answers/import", s.sheetForm)
+		r.Post("/answers/import", s.sheetPreview)
+		r.Post("/answers/import/confirm", s.sheetConfirm)
 		r.Get("/experts/{expert}", s.expertPage)
 		r.Get("/experts/{expert}/link", s.issuedLinkPage)
 		r.Post("/experts/{expert}/revoke", s.revokeExpert)

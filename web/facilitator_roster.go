@@ -1,68 +1,27 @@
 package web
 
 import (
-	"crypto/rand"
-	"encoding/hex"
 	"net/http"
 	"strconv"
 	"strings"
-	"sync"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// issuedLinks holds each private link just issued for a short while, so
-// that adding an expert (or re-issuing a link) can redirect to a page
-// that shows it: reloading that page shows the link again instead of
-// adding the expert twice. Only the token's hash is ever stored; the link
-// itself lives here in memory for issuedFor, under a random key that
+// issuedLink's entry in Server.issued: a private link just issued, kept
+// (kept.go) so that adding an expert, or re-issuing a link, can redirect
+// to a page that shows it, and reloading that page shows the link again
+// instead of adding the expert twice. Only the token's hash is stored;
+// the link itself lives in memory for issuedFor under a random key that
 // only the facilitator's redirect carries, and is gone with the process.
-type issuedLinks struct {
-	mu    sync.Mutex
-	links map[string]issuedEntry
-}
-
 type issuedEntry struct {
 	workshop, expert int64
 	url              string
-	expires          time.Time
 }
 
 // issuedFor is how long a just-issued link can be shown again.
 const issuedFor = 15 * time.Minute
-
-func newIssuedLinks() *issuedLinks { return &issuedLinks{links: map[string]issuedEntry{}} }
-
-// keep remembers url and returns the key to show it by.
-func (l *issuedLinks) keep(workshop, expert int64, url string, now time.Time) (string, error) {
-	b := make([]byte, 16)
-	if _, err := rand.Read(b); err != nil {
-		return "", err
-	}
-	key := hex.EncodeToString(b)
-	l.mu.Lock()
-	defer l.mu.Unlock()
-	for k, e := range l.links {
-		if now.After(e.expires) {
-			delete(l.links, k)
-		}
-	}
-	l.links[key] = issuedEntry{workshop, expert, url, now.Add(issuedFor)}
-	return key, nil
-}
-
-// get returns the link kept under key for that workshop's expert, if it
-// has not expired.
-func (l *issuedLinks) get(key string, workshop, expert int64, now time.Time) (string, bool) {
-	l.mu.Lock()
-	defer l.mu.Unlock()
-	e, ok := l.links[key]
-	if !ok || e.workshop != workshop || e.expert != expert || now.After(e.expires) {
-		return "", false
-	}
-	return e.url, true
-}
 
 // sameName reports whether two display names are the same person's by
 // the rule a facilitator would apply at a glance: equal after trimming,
@@ -125,7 +84,7 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 // redirectToLink keeps the new link and sends the facilitator to the page
 // that shows it.
 func (s *Server) redirectToLink(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, e elicit.Expert, token string) {
-	key, err := s.issued.keep(ws.ID, e.ID, s.absLink(r, expertPath(token)), s.now())
+	key, err := s.issued.keep(issuedEntry{ws.ID, e.ID, s.absLink(r, expertPath(token))}, s.now())
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -144,8 +103,12 @@ func (s *Server) issuedLinkPage(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	url, found := s.issued.get(r.URL.Query().Get("k"), ws.ID, e.ID, s.now())
-	v := workshopView{Issued: &issuedLink{Expert: e, URL: url, Gone: !found}}
+	entry, found := s.issued.get(r.URL.Query().Get("k"), s.now())
+	found = found && entry.workshop == ws.ID && entry.expert == e.ID
+	v := workshopView{Issued: &issuedLink{Expert: e, URL: entry.url, Gone: !found}}
+	if !found {
+		v.Issued.URL = ""
+	}
 	s.showOverview(w, r, http.StatusOK, ws, v)
 }
 

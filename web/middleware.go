@@ -3,6 +3,7 @@ package web
 import (
 	"errors"
 	"net/http"
+	"regexp"
 	"strings"
 )
 
@@ -39,14 +40,22 @@ func securityHeaders(next http.Handler) http.Handler {
 // parseForm answers 413.
 func limitBody(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		if r.ContentLength > MaxBodyBytes {
+		limit := int64(MaxBodyBytes)
+		if sheetUpload.MatchString(r.URL.Path) {
+			limit = MaxSheetBytes + 64<<10 // the sheet and its form's parts
+		}
+		if r.ContentLength > limit {
 			tooLarge(w)
 			return
 		}
-		r.Body = http.MaxBytesReader(w, r.Body, MaxBodyBytes)
+		r.Body = http.MaxBytesReader(w, r.Body, limit)
 		next.ServeHTTP(w, r)
 	})
 }
+
+// sheetUpload is the one address that takes more than MaxBodyBytes: an
+// answer sheet's upload.
+var sheetUpload = regexp.MustCompile(`^/w/[0-9]+/answers/import$`)
 
 func tooLarge(w http.ResponseWriter) {
 	w.Header().Set("Content-Type", "text/plain; charset=utf-8")

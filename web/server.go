@@ -56,7 +56,10 @@ type Server struct {
 	live *liveHub
 	// issued holds private links just issued, for the page the
 	// facilitator is sent to after adding an expert (facilitator_roster.go).
-	issued *issuedLinks
+	issued *kept[issuedEntry]
+	// sheets holds answer sheets between their preview and their
+	// confirmation (facilitator_sheet.go).
+	sheets *kept[keptSheet]
 }
 
 // New returns a Server over st.
@@ -65,7 +68,8 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
-		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), issued: newIssuedLinks()}
+		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(),
+		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now
 	}

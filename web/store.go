@@ -58,6 +58,9 @@ type Store interface {
 	// Revisions: append-only. SaveRevision fails with elicit.ErrRoundClosed when
 	// the workshop's round is not open; it sets ID, Round and At.
 	SaveRevision(ctx context.Context, r *elicit.Revision) error
+	// SaveRevisions saves several under SaveRevision's rules, all or none;
+	// an error names the first refused as "revisions[i]: ...".
+	SaveRevisions(ctx context.Context, rs []elicit.Revision) error
 	Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) // oldest first
 	// Narrower reads for the expert's pages, which are opened many times a
 	// round: one expert's revisions (all questions, or one), and each

@@ -1,0 +1,120 @@
+package main
+
+import (
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
+	"github.com/parley-elicit/parley/web"
+)
+
+func init() {
+	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run)", runImportAnswers)
+}
+
+// runImportAnswers reads an answer sheet (web.ReadAnswerSheet) against
+// the workshop's questions and panel and saves every row as a revision
+// the facilitator entered, all in one transaction, or none: any bad row
+// is refused with exit status 2 naming its row, column and rule.
+func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("import-answers", stderr)
+	dbPath := fs.String("db", "", "database `file`")
+	workshop := fs.String("workshop", "", "workshop `ID`")
+	in := fs.String("in", "", "answer sheet `file` (CSV), or - for standard input")
+	dryRun := fs.Bool("dry-run", false, "check the sheet and print what would be saved, without saving")
+	channel := fs.String("channel", string(elicit.ChannelFile), "how the judgements reached you: in_person, phone, paper_form, message or file")
+	if err := fs.Parse(args); err != nil {
+		return exitBadInput
+	}
+	if fs.NArg() > 0 {
+		return fail(stderr, "import-answers", badInput(fs.Arg(0), "unexpected argument"))
+	}
+	if *dbPath == "" {
+		return fail(stderr, "import-answers", badInput("db", "a database file is required"))
+	}
+	id, err := strconv.ParseInt(*workshop, 10, 64)
+	if err != nil || id <= 0 {
+		return fail(stderr, "import-answers", badInput("workshop", "must be a workshop ID, a whole number above 0"))
+	}
+	ch := elicit.Channel(*channel)
+	if err := (elicit.Revision{EnteredBy: elicit.ByFacilitator, Channel: ch}).CheckProvenance(); err != nil {
+		return fail(stderr, "import-answers", badInput("channel", "must be one of in_person, phone, paper_form, message, file"))
+	}
+	var r io.Reader = stdin
+	switch *in {
+	case "":
+		return fail(stderr, "import-answers", badInput("in", "an answer sheet file is required"))
+	case "-":
+	default:
+		f, err := os.Open(*in)
+		if err != nil {
+			return fail(stderr, "import-answers", badInput("in", "%v", err))
+		}
+		defer f.Close()
+		r = f
+	}
+	if _, err := os.Stat(*dbPath); err != nil {
+		return fail(stderr, "import-answers", badInput("db", "%v", err))
+	}
+	db, err := store.Open(*dbPath)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	defer db.Close()
+	ctx := context.Background()
+	ws, err := db.Workshop(ctx, id)
+	if err != nil {
+		return fail(stderr, "import-answers", badInput("workshop", "no workshop %d in %s", id, *dbPath))
+	}
+	qs, err := db.Questions(ctx, id)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	es, err := db.Experts(ctx, id)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	rows, err := web.ReadAnswerSheet(r, qs, es)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	if !ws.Open {
+		// The same refusal as the save's, named at the first row.
+		return fail(stderr, "import-answers", web.SaveSheet(ctx, db, ws, rows, ch))
+	}
+	verb := "saved"
+	if *dryRun {
+		verb = "would save"
+	}
+	for _, row := range rows {
+		fmt.Fprintf(stdout, "row %d: %s, Q%d: Beta(%s, %s)%s\n", row.Line, row.Expert.Name, row.Question.Position,
+			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit))
+	}
+	if !*dryRun {
+		if err := web.SaveSheet(ctx, db, ws, rows, ch); err != nil {
+			return fail(stderr, "import-answers", err)
+		}
+	}
+	fmt.Fprintf(stdout, "%s %d judgements in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), ws.Round, id, ch)
+	return exitOK
+}
+
+func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', 4, 64) }
+
+func warningsNote(f elicit.Fit) string {
+	if len(f.Warnings) == 0 {
+		return ""
+	}
+	s := " — "
+	for i, w := range f.Warnings {
+		if i > 0 {
+			s += "; "
+		}
+		s += w.Message
+	}
+	return s
+}

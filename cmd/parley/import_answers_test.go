@@ -1,0 +1,112 @@
+package main
+
+import (
+	"context"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/store"
+)
+
+func revisionsIn(t *testing.T, path string, ws int64) []elicit.Revision {
+	t.Helper()
+	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	revs, err := db.Revisions(context.Background(), ws)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return revs
+}
+
+func writeSheet(t *testing.T, text string) string {
+	t.Helper()
+	p := filepath.Join(t.TempDir(), "answers.csv")
+	if err := os.WriteFile(p, []byte(text), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	return p
+}
+
+// import-answers saves a good sheet as the facilitator's entries, all at
+// once; --dry-run checks and prints without saving.
+func TestImportAnswers(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	before := len(revisionsIn(t, path, ws))
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,From her notes (invented).\nJomo,2,0.2,0.35,0.5,\n")
+	w := strconv.FormatInt(ws, 10)
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run")
+	if code != 0 || !strings.Contains(out, "row 2: Ines, Q2: Beta(") || !strings.Contains(out, "would save 2 judgements") {
+		t.Fatalf("dry run: %d %q %q", code, out, errOut)
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("--dry-run wrote %d revisions", n-before)
+	}
+	code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--channel", "paper_form")
+	if code != 0 || !strings.Contains(out, "saved 2 judgements") {
+		t.Fatalf("import: %d %q %q", code, out, errOut)
+	}
+	revs := revisionsIn(t, path, ws)
+	if len(revs) != before+2 {
+		t.Fatalf("%d revisions saved", len(revs)-before)
+	}
+	for _, rv := range revs[before:] {
+		if rv.EnteredBy != elicit.ByFacilitator || rv.Channel != elicit.ChannelPaperForm {
+			t.Errorf("saved provenance %q %q", rv.EnteredBy, rv.Channel)
+		}
+	}
+	if revs[before].Reason != "From her notes (invented)." || revs[before].Answer.Values[1] != 0.3 {
+		t.Errorf("saved %+v", revs[before])
+	}
+}
+
+// A bad sheet or flag: exit 2, one line naming the row and column (or
+// the flag) and the rule, nothing written.
+func TestImportAnswersRefusals(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	before := len(revisionsIn(t, path, ws))
+	w := strconv.FormatInt(ws, 10)
+	good := "expert,question,q05,q50,q95\nInes,Q2,0.1,0.3,0.6\n"
+	for _, c := range []struct {
+		name string
+		args []string
+		want string
+	}{
+		{"unknown expert", []string{"--in", writeSheet(t, good+"Nobody,Q2,0.1,0.3,0.6\n")}, "row 3, column expert"},
+		{"broken rule", []string{"--in", writeSheet(t, good+"Jomo,Q1,0.3,0.2,0.6\n")}, "row 3, column q50: values must strictly increase"},
+		{"wrong column", []string{"--in", writeSheet(t, "expert,question,q05,q50,q95,lowest\nInes,Q2,0.1,0.3,0.6,0.2\n")}, `row 1, column "lowest"`},
+		{"no sheet", []string{}, "--in"},
+		{"bad channel", []string{"--in", writeSheet(t, good), "--channel", "carrier-pigeon"}, "--channel"},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			args := append([]string{"import-answers", "--db", path, "--workshop", w}, c.args...)
+			code, _, errOut := run(args...)
+			if code != 2 || !strings.Contains(errOut, c.want) || strings.Count(strings.TrimSpace(errOut), "\n") != 0 {
+				t.Fatalf("exit %d, stderr %q; want 2 naming %s", code, errOut, c.want)
+			}
+		})
+	}
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", "999", "--in", writeSheet(t, good)); code != 2 || !strings.Contains(errOut, "--workshop") {
+		t.Errorf("unknown workshop: %d %q", code, errOut)
+	}
+	// A closed round refuses the sheet at its first row.
+	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	check(t, db.SetRound(context.Background(), ws, 1, false, ""))
+	db.Close()
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, good)); code != 2 || !strings.Contains(errOut, "row 2, column question") {
+		t.Errorf("closed round: %d %q", code, errOut)
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("refused sheets wrote %d revisions", n-before)
+	}
+}

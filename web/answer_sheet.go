@@ -1,0 +1,380 @@
+package web
+
+import (
+	"context"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// An answer sheet is a CSV (RFC 4180) of judgements sent to the
+// facilitator, one row per expert and question, which the facilitator
+// imports on the experts' behalf (`parley import-answers`, and the upload
+// on the workshop's pages). Its columns:
+//
+//	expert     the expert's name as on the panel, or id:N
+//	question   the question's number as on the overview (3 or Q3), or id:N
+//	qNN ...    for a quantile question, one column per probability it asks,
+//	           named as `parley calibrate` names them: q05, q50, q95
+//	lowest, highest, best, confidence   for a four-value question; the
+//	           confidence in percent, as on the expert's form (80 for 80%)
+//	bin1 ...   for a chips question, the chips in each bin, in order
+//	reason     optional: the expert's reasoning
+//
+// A row fills only the columns of its question's format. Every cell goes
+// through the rules of the expert's own form, so the sheet is refused as
+// a whole, naming the row (its line in the file), the column and the rule,
+// when any row breaks one.
+
+// Rules of answer sheets.
+const (
+	RuleSheetHeader  elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason)"
+	RuleSheetColumn  elicit.Rule = "is not a column of this question's format"
+	RuleSheetMissing elicit.Rule = "is required for this question's format"
+	RuleSheetRepeat  elicit.Rule = "one row per expert and question"
+	RuleSheetExpert  elicit.Rule = "names no active expert on this workshop's panel"
+	RuleSheetQuest   elicit.Rule = "names no question of this workshop that takes answers"
+	RuleSheetEmpty   elicit.Rule = "the sheet has no rows"
+)
+
+// MaxSheetRows bounds a sheet: a panel of 200 experts answering 50
+// questions.
+const MaxSheetRows = 10000
+
+// SheetRow is one row of a sheet, read and fitted.
+type SheetRow struct {
+	Line     int // the row's line in the file
+	Expert   elicit.Expert
+	Question elicit.Question
+	Answer   elicit.Answer
+	Reason   string
+	Fit      elicit.Fit
+}
+
+// sheetErr names a row and a column.
+func sheetErr(line int, column string, rule elicit.Rule, detail string, args ...any) error {
+	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: rule, Detail: fmt.Sprintf(detail, args...)}
+}
+
+// QuantileColumn is the sheet column of probability p: "q" and p's
+// decimals, at least two (0.05 → q05, 0.5 → q50, 0.975 → q975). A
+// probability without a short decimal form (1/3) takes the two-digit
+// rounding (q33), the way people write it.
+func QuantileColumn(p float64) string {
+	for d := 2; d <= 6; d++ {
+		s := strconv.FormatFloat(p, 'f', d, 64)
+		if v, _ := strconv.ParseFloat(s, 64); math.Abs(v-p) < 1e-12 {
+			digits := strings.TrimPrefix(s, "0.")
+			for len(digits) > 2 && strings.HasSuffix(digits, "0") {
+				digits = digits[:len(digits)-1]
+			}
+			return "q" + digits
+		}
+	}
+	return "q" + strings.TrimPrefix(strconv.FormatFloat(p, 'f', 2, 64), "0.")
+}
+
+// sheetColumns are the answer columns of q's format, in order.
+func sheetColumns(q elicit.Question) []string {
+	switch q.Format {
+	case elicit.FormatInterval:
+		return []string{"lowest", "highest", "best", "confidence"}
+	case elicit.FormatChips:
+		cols := make([]string, max(0, len(q.BinEdges)-1))
+		for i := range cols {
+			cols[i] = "bin" + strconv.Itoa(i+1)
+		}
+		return cols
+	}
+	cols := make([]string, len(q.Probs))
+	for i, p := range q.Probs {
+		cols[i] = QuantileColumn(p)
+	}
+	return cols
+}
+
+// ReadAnswerSheet reads a sheet against a workshop's questions and panel.
+// Rows are returned in file order, each fitted by its question's Fit, or
+// the first broken rule as an *elicit.InputError naming the row and the
+// column. Retired questions, calibration questions whose true value is
+// revealed, and revoked experts take no answers here either.
+func ReadAnswerSheet(r io.Reader, questions []elicit.Question, experts []elicit.Expert) ([]SheetRow, error) {
+	cr := csv.NewReader(r)
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleSheetEmpty}
+	}
+	if err != nil {
+		return nil, sheetErr(1, "?", RuleSheetHeader, "%v", err)
+	}
+	known := map[string]bool{"expert": true, "question": true, "reason": true}
+	for _, q := range questions {
+		for _, c := range sheetColumns(q) {
+			known[c] = true
+		}
+	}
+	col := map[string]int{}
+	for i, h := range header {
+		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		if !known[h] {
+			return nil, sheetErr(1, strconv.Quote(h), RuleSheetHeader, "no question of this workshop has a column %q", h)
+		}
+		if _, dup := col[h]; dup {
+			return nil, sheetErr(1, strconv.Quote(h), RuleSheetHeader, "the column appears twice")
+		}
+		col[h] = i
+	}
+	for _, need := range []string{"expert", "question"} {
+		if _, ok := col[need]; !ok {
+			return nil, sheetErr(1, need, RuleSheetHeader, "missing")
+		}
+	}
+	var rows []SheetRow
+	seen := map[[2]int64]int{}
+	for {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		line, _ := cr.FieldPos(0)
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				line = pe.Line
+			}
+			return nil, sheetErr(line, "?", RuleSheetHeader, "not CSV: %v", err)
+		}
+		if len(rows) == MaxSheetRows {
+			return nil, sheetErr(line, "?", elicit.RuleCountRange, "at most %d rows", MaxSheetRows)
+		}
+		cell := func(name string) string {
+			if i, ok := col[name]; ok && i < len(rec) {
+				return strings.TrimSpace(rec[i])
+			}
+			return ""
+		}
+		row, err := readSheetRow(line, cell, questions, experts, col)
+		if err != nil {
+			return nil, err
+		}
+		key := [2]int64{row.Expert.ID, row.Question.ID}
+		if first, dup := seen[key]; dup {
+			return nil, sheetErr(line, "question", RuleSheetRepeat, "%s's answer to Q%d is also on row %d", row.Expert.Name, row.Question.Position, first)
+		}
+		seen[key] = line
+		rows = append(rows, row)
+	}
+	if len(rows) == 0 {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleSheetEmpty}
+	}
+	return rows, nil
+}
+
+// readSheetRow reads one row through the expert form's own parser and
+// elicit's rules.
+func readSheetRow(line int, cell func(string) string, questions []elicit.Question, experts []elicit.Expert, col map[string]int) (SheetRow, error) {
+	row := SheetRow{Line: line}
+	var ok bool
+	if row.Expert, ok = findExpert(cell("expert"), experts); !ok {
+		return row, sheetErr(line, "expert", RuleSheetExpert, "%q", cell("expert"))
+	}
+	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
+		return row, sheetErr(line, "question", RuleSheetQuest, "%q", cell("question"))
+	}
+	q := row.Question
+	if q.Frozen() {
+		return row, sheetErr(line, "question", RuleSheetQuest, "Q%d's true value has been revealed, so its answers are final", q.Position)
+	}
+	mine := sheetColumns(q)
+	own := map[string]bool{"expert": true, "question": true, "reason": true}
+	for _, c := range mine {
+		own[c] = true
+		if cell(c) == "" {
+			if _, present := col[c]; !present || q.Format != elicit.FormatChips {
+				return row, sheetErr(line, c, RuleSheetMissing, "Q%d is asked as %s", q.Position, formatLabel(q))
+			}
+		}
+	}
+	for name := range col {
+		if !own[name] && cell(name) != "" {
+			return row, sheetErr(line, name, RuleSheetColumn, "Q%d is asked as %s", q.Position, formatLabel(q))
+		}
+	}
+	// Each cell by the form's own number rules, the answer by elicit's.
+	var a elicit.Answer
+	num := func(c string) (float64, error) {
+		v, err := parseFloatField(c, cell(c))
+		return v, underColumn(line, c, err)
+	}
+	var err error
+	switch q.Format {
+	case elicit.FormatInterval:
+		for _, f := range []struct {
+			c string
+			v *float64
+		}{{"lowest", &a.Lowest}, {"highest", &a.Highest}, {"best", &a.Best}, {"confidence", &a.Confidence}} {
+			if *f.v, err = num(f.c); err != nil {
+				return row, err
+			}
+		}
+		a.Confidence /= 100 // in percent, as on the expert's form
+	case elicit.FormatChips:
+		a.Counts = make([]int, len(mine))
+		for i, c := range mine {
+			v := cell(c)
+			if v == "" {
+				continue // an empty bin holds no chips
+			}
+			if a.Counts[i], err = parseIntField(c, v, 0, elicit.MaxChips); err != nil {
+				return row, underColumn(line, c, err)
+			}
+		}
+	default:
+		a.Values = make([]float64, len(mine))
+		for i, c := range mine {
+			if a.Values[i], err = num(c); err != nil {
+				return row, err
+			}
+		}
+	}
+	if row.Reason, err = parseTextField("reason", cell("reason"), MaxLongText, false); err != nil {
+		return row, underColumn(line, "reason", err)
+	}
+	fit, err := q.Fit(a)
+	if err != nil {
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) {
+			return row, err
+		}
+		column := ie.Field
+		if i, ok := fieldIndex(ie.Field); ok && i < len(mine) {
+			column = mine[i]
+		} else if ie.Field == "counts" {
+			column = strings.Join(mine, ",")
+		}
+		if ie.Field == "confidence" {
+			return row, sheetErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
+		}
+		return row, &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
+	}
+	row.Answer, row.Fit = a, fit
+	return row, nil
+}
+
+// underColumn puts a cell's parse error under its row and column.
+func underColumn(line int, column string, err error) error {
+	var ie *elicit.InputError
+	if err == nil || !errors.As(err, &ie) {
+		return err
+	}
+	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
+}
+
+// fieldIndex reads the index of "values[2]" or "counts[2]".
+func fieldIndex(field string) (int, bool) {
+	open, end := strings.IndexByte(field, '['), strings.IndexByte(field, ']')
+	if open < 0 || end < open {
+		return 0, false
+	}
+	i, err := strconv.Atoi(field[open+1 : end])
+	return i, err == nil
+}
+
+// findExpert finds an active expert by name (case and spaces folded, as
+// sameName) or by id:N.
+func findExpert(s string, experts []elicit.Expert) (elicit.Expert, bool) {
+	if id, ok := sheetID(s); ok {
+		for _, e := range experts {
+			if e.ID == id && !e.Revoked {
+				return e, true
+			}
+		}
+		return elicit.Expert{}, false
+	}
+	var found elicit.Expert
+	n := 0
+	for _, e := range experts {
+		if !e.Revoked && sameName(e.Name, s) {
+			found, n = e, n+1
+		}
+	}
+	return found, n == 1 // two experts of one name must be named by id
+}
+
+// findQuestion finds a question that takes answers by its number (3 or
+// Q3) or by id:N.
+func findQuestion(s string, questions []elicit.Question) (elicit.Question, bool) {
+	id, byID := sheetID(s)
+	pos, err := strconv.Atoi(strings.TrimPrefix(strings.ToUpper(s), "Q"))
+	for _, q := range questions {
+		if q.Retired {
+			continue
+		}
+		if (byID && q.ID == id) || (!byID && err == nil && q.Position == pos) {
+			return q, true
+		}
+	}
+	return elicit.Question{}, false
+}
+
+// sheetID reads "id:N".
+func sheetID(s string) (int64, bool) {
+	rest, ok := strings.CutPrefix(strings.ToLower(strings.TrimSpace(s)), "id:")
+	if !ok {
+		return 0, false
+	}
+	id, err := strconv.ParseInt(strings.TrimSpace(rest), 10, 64)
+	return id, err == nil && id > 0
+}
+
+// RuleSheetRound is the rule that a sheet is saved into an open round.
+const RuleSheetRound elicit.Rule = "the workshop's round is closed, so no answer can be saved"
+
+// SaveSheet saves the rows as revisions the facilitator entered from
+// channel, all in one transaction or none. A refusal by the store (the
+// round closed, a question revealed or retired, an expert revoked since
+// the sheet was read) comes back naming the row it concerns.
+func SaveSheet(ctx context.Context, st Store, ws elicit.Workshop, rows []SheetRow, channel elicit.Channel) error {
+	if !ws.Open && len(rows) > 0 {
+		return sheetErr(rows[0].Line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+	}
+	err := st.SaveRevisions(ctx, SheetRevisions(rows, channel))
+	var i int
+	if err == nil || !strings.HasPrefix(err.Error(), "revisions[") {
+		return err
+	}
+	if _, scanErr := fmt.Sscanf(err.Error(), "revisions[%d]", &i); scanErr != nil || i < 0 || i >= len(rows) {
+		return err
+	}
+	line := rows[i].Line
+	switch {
+	case errors.Is(err, elicit.ErrRoundClosed):
+		return sheetErr(line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+	case errors.Is(err, elicit.ErrAnswersFrozen):
+		return sheetErr(line, "question", RuleSheetQuest, "Q%d's true value has been revealed, so its answers are final", rows[i].Question.Position)
+	case errors.Is(err, elicit.ErrRetired):
+		return sheetErr(line, "question", RuleSheetQuest, "Q%d is retired", rows[i].Question.Position)
+	case errors.Is(err, elicit.ErrRevoked), errors.Is(err, elicit.ErrNotFound):
+		return sheetErr(line, "expert", RuleSheetExpert, "%s", rows[i].Expert.Name)
+	}
+	return err
+}
+
+// SheetRevisions are the rows as revisions the facilitator entered from
+// the given channel.
+func SheetRevisions(rows []SheetRow, channel elicit.Channel) []elicit.Revision {
+	out := make([]elicit.Revision, len(rows))
+	for i, r := range rows {
+		out[i] = elicit.Revision{QuestionID: r.Question.ID, ExpertID: r.Expert.ID, Reason: r.Reason, Answer: r.Answer,
+			EnteredBy: elicit.ByFacilitator, Channel: channel}
+	}
+	return out
+}

@@ -1,0 +1,252 @@
+package web
+
+import (
+	"bytes"
+	"context"
+	"errors"
+	"html"
+	"mime/multipart"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// sheetRig is a workshop of every answer format for the sheet tests (an
+// invented storage-tank survey): Q1 quantiles at 5/50/95, Q2 the
+// four-value interval, Q3 chips in four bins, Q4 tertiles, Q5 a
+// calibration question; three experts.
+type sheetRig struct {
+	h       *harness
+	ws      elicit.Workshop
+	qs      []elicit.Question
+	experts []elicit.Expert
+}
+
+func newSheetRig(t *testing.T) *sheetRig {
+	t.Helper()
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := elicit.Workshop{Title: "Tank survey (invented)", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	truth := 0.2
+	qs := []elicit.Question{
+		{Wording: "Share of tanks with wall loss?", Quantity: "wall loss share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault},
+		{Wording: "Share with coating failure?", Quantity: "coating failure share", Lower: 0, Upper: 1, Format: elicit.FormatInterval},
+		{Wording: "Share with sludge above the inlet?", Quantity: "sludge share", Lower: 0, Upper: 1, Format: elicit.FormatChips,
+			BinEdges: []float64{0, 0.1, 0.2, 0.4, 1}, Chips: 20},
+		{Wording: "Share with a leaking valve?", Quantity: "valve leak share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsTertiles},
+		{Wording: "Share of last year's tanks repainted?", Quantity: "repainted share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles,
+			Probs: elicit.ProbsDefault, Calibration: true, TrueValue: &truth},
+	}
+	for i := range qs {
+		qs[i].WorkshopID = ws.ID
+		if err := h.db.AddQuestion(ctx, &qs[i]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	var es []elicit.Expert
+	for i, n := range []string{"Ada Quell", "Bruno Ferrante", "Chiara Osei"} {
+		e := elicit.Expert{WorkshopID: ws.ID, Name: n}
+		if err := h.db.AddExpert(ctx, &e, []byte("sheet-"+strconv.Itoa(i))); err != nil {
+			t.Fatal(err)
+		}
+		es = append(es, e)
+	}
+	return &sheetRig{h: h, ws: ws, qs: qs, experts: es}
+}
+
+const goodSheet = `expert,question,q05,q50,q95,lowest,highest,best,confidence,bin1,bin2,bin3,bin4,q33,q67,reason
+Ada Quell,Q1,0.02,0.06,0.15,,,,,,,,,,,"Inspection logs, ""2019–2024"" (invented)"
+ada quell,2,,,,0.05,0.3,0.12,80,,,,,,,
+Bruno Ferrante,Q3,,,,,,,,4,10,6,,,,Most tanks are clean (invented).
+id:3,Q4,,0.15,,,,,,,,,,0.1,0.2,,
+Chiara Osei,q1,0.01,0.03,0.08,,,,,,,,,,,
+`
+
+func (g *sheetRig) revisions(t *testing.T) []elicit.Revision {
+	t.Helper()
+	revs, err := g.h.db.Revisions(context.Background(), g.ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return revs
+}
+
+// A good sheet with every format reads row by row, each fitted exactly
+// as the expert's own form would fit it.
+func TestReadAnswerSheet(t *testing.T) {
+	g := newSheetRig(t)
+	rows, err := ReadAnswerSheet(strings.NewReader(goodSheet), g.qs, g.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 5 {
+		t.Fatalf("%d rows", len(rows))
+	}
+	want := []struct {
+		line     int
+		expert   string
+		question int
+		answer   elicit.Answer
+	}{
+		{2, "Ada Quell", 1, elicit.Answer{Values: []float64{0.02, 0.06, 0.15}}},
+		{3, "Ada Quell", 2, elicit.Answer{Lowest: 0.05, Highest: 0.3, Best: 0.12, Confidence: 0.8}},
+		{4, "Bruno Ferrante", 3, elicit.Answer{Counts: []int{4, 10, 6, 0}}},
+		{5, "Chiara Osei", 4, elicit.Answer{Values: []float64{0.1, 0.15, 0.2}}},
+		{6, "Chiara Osei", 1, elicit.Answer{Values: []float64{0.01, 0.03, 0.08}}},
+	}
+	for i, w := range want {
+		r := rows[i]
+		if r.Line != w.line || r.Expert.Name != w.expert || r.Question.Position != w.question {
+			t.Errorf("row %d: line %d, %s, Q%d", i, r.Line, r.Expert.Name, r.Question.Position)
+		}
+		if w.answer.Values != nil && (r.Answer.Values[0] != w.answer.Values[0] || r.Answer.Values[2] != w.answer.Values[2]) {
+			t.Errorf("row %d values %v", i, r.Answer.Values)
+		}
+		fit, err := r.Question.Fit(r.Answer)
+		if err != nil || fit.Dist != r.Fit.Dist {
+			t.Errorf("row %d: fit %+v, the question's own fit %+v (%v)", i, r.Fit.Dist, fit.Dist, err)
+		}
+	}
+	if rows[0].Reason != `Inspection logs, "2019–2024" (invented)` {
+		t.Errorf("quoted reason read as %q", rows[0].Reason)
+	}
+	if a := rows[1].Answer; a.Confidence != 0.8 || a.Best != 0.12 {
+		t.Errorf("interval read as %+v", a)
+	}
+	if c := rows[2].Answer.Counts; len(c) != 4 || c[3] != 0 {
+		t.Errorf("chips read as %v (the empty bin holds none)", c)
+	}
+}
+
+// Columns are named by the probabilities asked (the tertiles' q33 and
+// q67 at two digits, as people write them).
+func TestQuantileColumnNames(t *testing.T) {
+	for _, c := range []struct {
+		p    float64
+		want string
+	}{{0.05, "q05"}, {0.5, "q50"}, {0.95, "q95"}, {0.25, "q25"}, {0.975, "q975"}, {0.025, "q025"}, {1.0 / 3, "q33"}, {2.0 / 3, "q67"}, {0.1, "q10"}} {
+		if got := QuantileColumn(c.p); got != c.want {
+			t.Errorf("QuantileColumn(%v) = %q, want %q", c.p, got, c.want)
+		}
+	}
+}
+
+// Each class of bad row refuses the whole sheet, naming the row, the
+// column and the rule, and nothing is written.
+func TestAnswerSheetRefusals(t *testing.T) {
+	g := newSheetRig(t)
+	head := "expert,question,q05,q50,q95,lowest,highest,best,confidence,reason\n"
+	good := "Ada Quell,Q1,0.02,0.06,0.15,,,,,\n"
+	for _, c := range []struct {
+		name, sheet, field string
+		rule               elicit.Rule
+	}{
+		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", RuleSheetExpert},
+		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetQuest},
+		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", RuleSheetColumn},
+		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", RuleSheetMissing},
+		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
+		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", RuleNumberSyntax},
+		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetRepeat},
+		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, RuleSheetHeader},
+		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", RuleSheetQuest},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			if c.name == "a revealed calibration question" {
+				if err := g.h.db.SetTrueValue(context.Background(), g.qs[4].ID, 0.2, true, "shown"); err != nil {
+					t.Fatal(err)
+				}
+				qs, _ := g.h.db.Questions(context.Background(), g.ws.ID)
+				g.qs = qs
+			}
+			_, err := ReadAnswerSheet(strings.NewReader(c.sheet), g.qs, g.experts)
+			var ie *elicit.InputError
+			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != RuleNumberSyntax && ie.Rule != c.rule) {
+				t.Fatalf("got %v, want %s: %s", err, c.field, c.rule)
+			}
+			// Through the web upload too: 422, the message, nothing saved.
+			r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {c.sheet}, "channel": {"file"}})
+			if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, html.EscapeString(c.field)) {
+				t.Errorf("upload: %d, want 422 naming %s", r.StatusCode, c.field)
+			}
+			if n := len(g.revisions(t)); n != 0 {
+				t.Fatalf("%d revisions written by a refused sheet", n)
+			}
+		})
+	}
+	// A closed round refuses the sheet at its first row.
+	if err := g.h.db.SetRound(context.Background(), g.ws.ID, 1, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {head + good}})
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 2, column question") || !strings.Contains(body, html.EscapeString(string(RuleSheetRound))) {
+		t.Errorf("closed round: %d", r.StatusCode)
+	}
+}
+
+// The upload previews every row with its fit, saves nothing until
+// confirmed, and then saves exactly what the preview showed, as the
+// facilitator's entries from the chosen channel.
+func TestSheetUploadPreviewThenSave(t *testing.T) {
+	g := newSheetRig(t)
+	var buf bytes.Buffer
+	mw := multipart.NewWriter(&buf)
+	fw, _ := mw.CreateFormFile("file", "answers.csv")
+	fw.Write([]byte(goodSheet))
+	mw.WriteField("channel", "message")
+	mw.Close()
+	req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
+	req.Header.Set("Content-Type", mw.FormDataContentType())
+	req.Header.Set("Origin", g.h.ts.URL)
+	r, body := g.h.do(req)
+	if r.StatusCode != http.StatusOK || !strings.Contains(body, "Nothing is saved yet") {
+		t.Fatalf("preview: %d %s", r.StatusCode, body)
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("the preview saved %d revisions", n)
+	}
+	previewed := regexp.MustCompile(`<td>Beta\(([^)]*)\)</td>`).FindAllStringSubmatch(body, -1)
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if len(previewed) != 5 || key == nil {
+		t.Fatalf("preview rows %d, key %v", len(previewed), key)
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	revs := g.revisions(t)
+	if len(revs) != 5 {
+		t.Fatalf("%d revisions saved, want 5", len(revs))
+	}
+	byID := map[int64]elicit.Question{}
+	for _, q := range g.qs {
+		byID[q.ID] = q
+	}
+	for i, rv := range revs {
+		if rv.EnteredBy != elicit.ByFacilitator || rv.Channel != elicit.ChannelMessage {
+			t.Errorf("revision %d provenance %q %q", i, rv.EnteredBy, rv.Channel)
+		}
+		fit, err := byID[rv.QuestionID].Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got := fv(fit.Dist.Alpha) + ", " + fv(fit.Dist.Beta.Beta); got != previewed[i][1] {
+			t.Errorf("row %d: previewed Beta(%s), saved Beta(%s)", i, previewed[i][1], got)
+		}
+	}
+	// The key is spent.
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Errorf("confirming twice: %d", r.StatusCode)
+	}
+	if len(g.revisions(t)) != 5 {
+		t.Fatal("a second confirmation saved again")
+	}
+}

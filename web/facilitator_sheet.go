@@ -1,0 +1,194 @@
+package web
+
+import (
+	"errors"
+	"io"
+	"net/http"
+	"strings"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Importing an answer sheet on the facilitator's pages: upload (or
+// paste) the CSV, see every row's fit and warnings, then confirm. The
+// sheet waits between the two steps in memory for sheetFor; the
+// confirmation reads it again against the workshop as it is then, so
+// what is saved is what the preview showed, or nothing.
+
+// MaxSheetBytes is the largest answer sheet the upload takes: a sheet at
+// MaxSheetRows of ordinary rows fits well within it.
+const MaxSheetBytes = 1 << 20
+
+// sheetFor is how long an uploaded sheet waits for its confirmation.
+const sheetFor = 30 * time.Minute
+
+// keptSheet is an uploaded sheet waiting for its confirmation.
+type keptSheet struct {
+	workshop int64
+	text     string
+	channel  elicit.Channel
+}
+
+// sheetView is the upload page: the form, or the preview of a sheet.
+type sheetView struct {
+	Workshop elicit.Workshop
+	Form     *Form
+	Rows     []SheetRow
+	Key      string
+	Channel  elicit.Channel
+}
+
+func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
+
+func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	f := newForm(nil)
+	f.Values.Set("channel", string(elicit.ChannelFile))
+	s.renderSheet(w, r, http.StatusOK, sheetView{Workshop: ws, Form: f})
+}
+
+func (s *Server) renderSheet(w http.ResponseWriter, r *http.Request, status int, v sheetView) {
+	s.renderPage(w, r, status, facilitatorMeta(v.Workshop, "Import judgements", "overview"), sheetPage(v))
+}
+
+// readSheetUpload reads the posted sheet: a file (multipart) or text
+// pasted into the form.
+func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, bool) {
+	if strings.HasPrefix(r.Header.Get("Content-Type"), "multipart/form-data") {
+		if err := r.ParseMultipartForm(MaxSheetBytes); err != nil {
+			var mbe *http.MaxBytesError
+			if errors.As(err, &mbe) {
+				tooLarge(w)
+				return nil, "", false
+			}
+			http.Error(w, "The upload could not be read: "+err.Error(), http.StatusBadRequest)
+			return nil, "", false
+		}
+	} else if !parseForm(w, r) {
+		return nil, "", false
+	}
+	f := newForm(r.PostForm)
+	text := f.Value("sheet")
+	if r.MultipartForm != nil {
+		if files := r.MultipartForm.File["file"]; len(files) > 0 {
+			fh, err := files[0].Open()
+			if err == nil {
+				b, rerr := io.ReadAll(io.LimitReader(fh, MaxSheetBytes+1))
+				fh.Close()
+				err = rerr
+				if len(b) > MaxSheetBytes {
+					tooLarge(w)
+					return nil, "", false
+				}
+				if strings.TrimSpace(string(b)) != "" {
+					text = string(b)
+				}
+			}
+			if err != nil {
+				f.set("file", "could not be read: "+err.Error())
+			}
+		}
+	}
+	return f, text, true
+}
+
+// sheetPreview checks an uploaded sheet and shows every row with its fit,
+// or the first broken rule; nothing is saved.
+func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	f, text, ok := readSheetUpload(w, r)
+	if !ok {
+		return
+	}
+	channel := elicit.Channel(f.Choice("channel", string(elicit.ChannelFile), channelNames()...))
+	v := sheetView{Workshop: ws, Form: f, Channel: channel}
+	if strings.TrimSpace(text) == "" && f.OK() {
+		f.set("file", "choose a CSV file, or paste the sheet below")
+	}
+	rows, err := s.checkSheet(r, ws, text)
+	if f.OK() {
+		if err != nil {
+			if !isInputError(err) {
+				s.fail(w, r, err)
+				return
+			}
+			f.Fail(err, nil)
+		}
+	}
+	if !f.OK() {
+		s.renderSheet(w, r, http.StatusUnprocessableEntity, v)
+		return
+	}
+	key, err := s.sheets.keep(keptSheet{workshop: ws.ID, text: text, channel: channel}, s.now())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v.Rows, v.Key = rows, key
+	s.renderSheet(w, r, http.StatusOK, v)
+}
+
+// checkSheet reads text as an answer sheet of ws, refusing it at once
+// when the round is closed.
+func (s *Server) checkSheet(r *http.Request, ws elicit.Workshop, text string) ([]SheetRow, error) {
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		return nil, err
+	}
+	es, err := s.store.Experts(r.Context(), ws.ID)
+	if err != nil {
+		return nil, err
+	}
+	rows, err := ReadAnswerSheet(strings.NewReader(text), qs, es)
+	if err == nil && !ws.Open {
+		err = sheetErr(rows[0].Line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+	}
+	return rows, err
+}
+
+// sheetConfirm saves the previewed sheet, read again against the
+// workshop as it now is, all rows or none.
+func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	key := f.Value("key")
+	sh, found := s.sheets.get(key, s.now())
+	if !found || sh.workshop != ws.ID {
+		f.set("file", "the sheet waited too long for its confirmation (or the server restarted); upload it again")
+		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
+		return
+	}
+	rows, err := s.checkSheet(r, ws, sh.text)
+	if err == nil {
+		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel)
+	}
+	if err != nil {
+		if !isInputError(err) {
+			s.fail(w, r, err)
+			return
+		}
+		f.Fail(err, nil)
+		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
+		return
+	}
+	s.sheets.drop(key)
+	http.Redirect(w, r, workshopPath(ws.ID)+"#answered", http.StatusSeeOther)
+}
+
+func channelNames() []string {
+	out := make([]string, len(elicit.Channels))
+	for i, c := range elicit.Channels {
+		out[i] = string(c)
+	}
+	return out
+}
