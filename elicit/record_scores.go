@@ -213,6 +213,9 @@ type Performance struct {
 	Answers string              `json:"answers"`
 	Experts []PerformanceExpert `json:"experts"`
 	Pooled  PooledScore         `json:"pooled"`
+	// Warnings say where the weighting rests on weak ground
+	// (CalibrationWarnings).
+	Warnings []Warning `json:"warnings"`
 	// InForce reports whether the workshop's current pool weights are
 	// these performance weights.
 	InForce bool `json:"in_force"`
@@ -271,6 +274,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 			Calibration: es.Calibration, Information: es.Information, Combined: es.Combined, Weight: es.Weight,
 		})
 	}
+	p.Warnings = CalibrationWarnings(len(p.Questions), p.Experts)
 	return p, nil
 }
 

@@ -317,3 +317,37 @@ func isInputError(err error) bool {
 	var ie *elicit.InputError
 	return errors.As(err, &ie)
 }
+
+// strengthView is the warnings block about a performance weighting
+// (elicit.CalibrationWarnings) and the sentence that says which weighting
+// it is about. It is empty when there is nothing to warn of.
+type strengthView struct {
+	Lead     string
+	Warnings []elicit.Warning
+}
+
+// panelStrength is the warnings block of a question's panel: about the
+// performance weights in force, from what they were made of when the
+// weight set keeps it; otherwise about the performance weights the
+// calibration page offers, once every scored calibration question has
+// its true value.
+func panelStrength(d workshopData) strengthView {
+	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	if d.Weights.Scheme == elicit.WeightsPerformance {
+		v := strengthView{Lead: "The performance weights in force rest on weak ground:"}
+		if set.Ready() {
+			if p, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
+				v.Warnings = p.Warnings
+			}
+		}
+		return v
+	}
+	if !set.Ready() {
+		return strengthView{}
+	}
+	p, err := elicit.ScorePerformance(set, nil)
+	if err != nil {
+		return strengthView{}
+	}
+	return strengthView{Lead: "Performance weights from the calibration page would rest on weak ground:", Warnings: p.Warnings}
+}

@@ -176,6 +176,7 @@ type panelView struct {
 	WeightsForm *Form
 	AgreeForm   *Form
 	Consensus   answerForm
+	Strength    strengthView // calibration.go: warnings about performance weights
 }
 
 // loadQuestion reads the {question} of workshop ws, answering 404 when it
@@ -230,6 +231,7 @@ func (s *Server) showPanel(w http.ResponseWriter, r *http.Request, status int, w
 	cf := newAnswerForm(q, formValues(af))
 	applyErrors(&cf, af)
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf}
+	v.Strength = panelStrength(d)
 	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
 	m.Caution = true
 	s.renderPage(w, r, status, m, panelPage(v))
