@@ -29,7 +29,9 @@ type CalibrationSet struct {
 	// Experts are the active experts, in roster order.
 	Experts []Expert
 
-	Assessments  []SeedAssessment
+	Assessments []SeedAssessment
+	// RevisionIDs[i] is the revision whose answer Assessments[i] scores.
+	RevisionIDs  []int64
 	Realisations map[string]float64
 	Bounds       map[string][2]float64
 }
@@ -142,6 +144,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 				Expert: SeedExpertKey(e.ID), Question: key,
 				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
 			})
+			set.RevisionIDs = append(set.RevisionIDs, rv.ID)
 		}
 	}
 	return set
@@ -248,7 +251,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 		return Performance{}, inputErr("calibration_questions", RuleRequired,
 			"scoring needs answered calibration questions, each with its true value")
 	}
-	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha})
+	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha, Overshoot: DefaultOvershoot})
 	if err != nil {
 		return Performance{}, err
 	}
