@@ -11,7 +11,6 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
-	"github.com/parley-elicit/parley/web/chart"
 )
 
 // calibrationRoutes are a workshop's calibration pages: true values, the
@@ -51,15 +50,15 @@ type calibrationView struct {
 	AlphaForm *Form
 	Perf      *elicit.Performance
 	PerfError string
-	Scores    []chart.ScoreRow
+	Questions []elicit.Question // the workshop's, for labels and bounds
+	Names     map[int64]string  // experts' names by ID
 
 	Robustness      *elicit.Robustness
 	RobustnessError string
 
 	Compare     []elicit.PoolComparison
-	Labels      map[int64]string // "Q1 quantity" by question ID
-	Weights     elicit.Weights   // in force
-	InForce     bool             // the weights in force are these performance weights
+	Weights     elicit.Weights // in force
+	InForce     bool           // the weights in force are these performance weights
 	Experts     []elicit.Expert
 	WeightsForm *Form
 }
@@ -110,10 +109,8 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 	v := calibrationView{
 		Workshop: ws, Skipped: set.Skipped, Pending: len(set.Pending), Scored: len(set.Questions), Ready: set.Ready(), Probs: set.Probs,
-		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts, Labels: map[int64]string{},
-	}
-	for _, q := range d.Questions {
-		v.Labels[q.ID] = "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts,
+		Questions: d.Questions, Names: expertNames(d.Experts),
 	}
 	for _, q := range d.Questions {
 		if !q.Calibration {
@@ -146,11 +143,6 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()
-			for _, e := range p.Experts {
-				if e.Answered > 0 {
-					v.Scores = append(v.Scores, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, Information: e.Information, Weight: e.Weight})
-				}
-			}
 			if inForce, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}

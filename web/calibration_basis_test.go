@@ -231,7 +231,7 @@ func TestReportShowsTheScoresBehindAppliedWeights(t *testing.T) {
 	sc := model(t, nil)
 	for _, e := range sc.Experts {
 		got := rowCells(t, body, "performance", e.Expert)
-		if len(got) < 5 || got[0] != "3" || got[1] != fv(e.Calibration) || got[2] != fv(e.Information) || got[4] != pct(e.Weight) {
+		if len(got) < 5 || got[0] != "3" || got[1] != fv(e.Calibration) || got[2] != fv(e.Information) || got[3] != pct(e.Weight) {
 			t.Errorf("report row %s: %v", e.Expert, got)
 		}
 	}

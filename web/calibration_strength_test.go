@@ -11,18 +11,48 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// block is the HTML of the element with id (up to its closing </div>),
-// or "" when the page has none.
+// block is the HTML of the element with id, up to its own closing tag
+// (nested elements of the same name are counted), or "" when the page
+// has none.
 func block(body, id string) string {
 	i := strings.Index(body, `id="`+id+`"`)
 	if i < 0 {
 		return ""
 	}
-	rest := body[i:]
-	if j := strings.Index(rest, "</div>"); j >= 0 {
-		return rest[:j]
+	start := strings.LastIndex(body[:i], "<")
+	name := strings.FieldsFunc(body[start+1:i], func(r rune) bool { return r == ' ' || r == '>' })[0]
+	// An opening tag is "<name" followed by a space or ">", so "<p" does
+	// not match "<path".
+	opening := func(from int) int {
+		for k := from; ; {
+			o := strings.Index(body[k:], "<"+name)
+			if o < 0 {
+				return -1
+			}
+			if c := body[k+o+len(name)+1]; c == ' ' || c == '>' {
+				return k + o - from
+			}
+			k += o + 1
+		}
 	}
-	return rest
+	depth := 0
+	for j := start; j < len(body); {
+		open, end := opening(j), strings.Index(body[j:], "</"+name+">")
+		switch {
+		case end < 0:
+			return body[start:]
+		case open >= 0 && open < end:
+			depth++
+			j += open + len(name) + 1
+		default:
+			depth--
+			j += end + len(name) + 3
+			if depth == 0 {
+				return body[start:j]
+			}
+		}
+	}
+	return body[start:]
 }
 
 // strengthCodes are the warning codes listed in the block with id.
