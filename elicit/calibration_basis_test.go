@@ -176,3 +176,37 @@ func TestValidateRefusesABrokenWeightHistory(t *testing.T) {
 		t.Errorf("hidden truth in a basis: %v", err)
 	}
 }
+
+// TestForQuestionKeepsTheEvidenceBehindItsWeights: one question's record
+// under performance weights carries the calibration questions and the
+// answers their basis scored, and is a valid record on its own.
+func TestForQuestionKeepsTheEvidenceBehindItsWeights(t *testing.T) {
+	src, b := basisWorkshop(t, true)
+	rec, err := BuildRecord(src, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	one, err := rec.ForQuestion(101)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := one.Validate(); err != nil {
+		t.Fatalf("one question's record is not valid on its own: %v", err)
+	}
+	ids := map[int64]bool{}
+	for _, q := range one.Questions {
+		ids[q.ID] = true
+	}
+	if len(one.Questions) != 6 || !ids[101] || !ids[102] || !ids[103] || !ids[104] || !ids[105] || !ids[106] {
+		t.Errorf("questions %v, want the target, the three scored calibration questions and the two left out", ids)
+	}
+	target := 0
+	for _, rv := range one.Revisions {
+		if rv.QuestionID == 101 {
+			target++
+		}
+	}
+	if target != 3 || len(one.Revisions) != 3+len(b.CalibrationAnswers) {
+		t.Errorf("%d revisions (%d on the target), want the target's 3 and the %d scored", len(one.Revisions), target, len(b.CalibrationAnswers))
+	}
+}

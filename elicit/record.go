@@ -337,20 +337,43 @@ func RecordFitOf(f Fit) *RecordFit {
 }
 
 // ForQuestion narrows the record to one question: its revisions, its
-// events and the workshop-wide events. The panel and weights stay whole.
+// events and the workshop-wide events. The panel and weights stay whole,
+// and so does the evidence behind any performance weights (the
+// calibration questions their bases scored or left out, and the
+// revisions they scored), so the narrowed record still reproduces the
+// question's pools.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
+	found := false
 	for _, q := range r.Questions {
-		if q.ID == id {
+		found = found || q.ID == id
+	}
+	if !found {
+		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, ErrNotFound)
+	}
+	for _, w := range r.WeightHistory {
+		if w.Basis == nil {
+			continue
+		}
+		for _, q := range w.Basis.Questions {
+			keepQ[q.QuestionID] = true
+		}
+		for _, q := range w.Basis.Skipped {
+			keepQ[q.ID] = true
+		}
+		for _, a := range w.Basis.CalibrationAnswers {
+			keepR[a.RevisionID] = true
+		}
+	}
+	for _, q := range r.Questions {
+		if keepQ[q.ID] {
 			out.Questions = append(out.Questions, q)
 		}
 	}
-	if len(out.Questions) == 0 {
-		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, ErrNotFound)
-	}
 	for _, rv := range r.Revisions {
-		if rv.QuestionID == id {
+		if rv.QuestionID == id || keepR[rv.ID] {
 			out.Revisions = append(out.Revisions, rv)
 		}
 	}

@@ -262,3 +262,28 @@ func TestReportShowsTheScoresBehindAppliedWeights(t *testing.T) {
 		}
 	}
 }
+
+// TestQuestionExportUnderPerformanceWeights: one target question's JSON
+// record carries the calibration evidence behind the weights and imports
+// as a valid record; its CSV lists only that question's revisions.
+func TestQuestionExportUnderPerformanceWeights(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	p.enterTruths(t, true)
+	if res, body := h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scored (invented)"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	qp := questionPath(p.ws.ID, p.targets[0].ID)
+	_, js := h.get(qp + "/export.json")
+	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	if err != nil {
+		t.Fatalf("one question's record does not parse: %v", err)
+	}
+	if len(rec.WeightHistory) != 1 || rec.WeightHistory[0].Basis == nil || len(rec.Revisions) != 4+12 {
+		t.Fatalf("question record: %d sets, %d revisions; want the basis and 4 + 12 revisions", len(rec.WeightHistory), len(rec.Revisions))
+	}
+	res, csv := h.get(qp + "/export.csv")
+	if rows := strings.Count(strings.TrimSpace(csv), "\n"); res.StatusCode != http.StatusOK || rows != 4 {
+		t.Fatalf("question CSV: %d, %d rows; want the target's 4", res.StatusCode, rows)
+	}
+}
