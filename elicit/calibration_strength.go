@@ -21,8 +21,8 @@ const (
 
 // RecommendedCalibrationQuestions is about how many calibration questions
 // Cooke & Goossens (2008, "TU Delft expert judgment data base", Reliab.
-// Eng. Syst. Saf. 93: 657–674) recommend for the classical model (the
-// figure as issue 10 cites the paper; not checked against the paper
+// Eng. Syst. Saf. 93: 657–674) recommend for the classical model (from
+// memory, as issue 10 cites the paper; not checked against the paper
 // here). With fewer, a calibration score has little power to tell a
 // well-calibrated expert from a lucky one: with N questions and three
 // quantiles the score takes only a handful of values.
