@@ -77,7 +77,8 @@ func (a SeedAssessment) validateQuantiles() error {
 // DefaultOvershoot.
 type ModelOptions struct {
 	// Alpha is a fixed calibration cut-off in [0, 1]; nil chooses the
-	// cut-off that maximises the decision maker's combined score.
+	// cut-off that maximises the performance-weighted pool's combined
+	// score.
 	Alpha *float64
 	// Overshoot is the k of the intrinsic range; 0 means DefaultOvershoot.
 	Overshoot float64
@@ -93,8 +94,8 @@ type ExpertScore struct {
 	N           int     `json:"n"`        // calibration questions answered
 }
 
-// PooledScore is the performance-weighted decision maker's score, computed
-// as for an expert from its quantiles at the experts' probabilities.
+// PooledScore is the score of the performance-weighted pool, computed as
+// for an expert from its quantiles at the experts' probabilities.
 type PooledScore struct {
 	Calibration float64 `json:"calibration"`
 	Information float64 `json:"information"`
@@ -103,8 +104,8 @@ type PooledScore struct {
 }
 
 // SeedResult is one calibration question's intrinsic range and the
-// decision maker's quantiles on it (nil when no expert with weight
-// answered the question).
+// performance-weighted pool's quantiles on it (nil when no expert with
+// weight answered the question).
 type SeedResult struct {
 	Question    string    `json:"question"`
 	Realisation float64   `json:"realisation"`
@@ -152,11 +153,12 @@ func (s Scores) Weights() map[string]float64 {
 // the highest quantiles and the realisation, widened by k(U−L) on each
 // side and cut to bounds[question] where given (Cooke 1991, §12.4).
 //
-// The decision maker (DM) on each question is the weighted linear pool of
-// the minimal-information distributions of the experts who answered it
-// (weights renormalised over them), and is scored like an expert from its
-// quantiles at the same probabilities on the same intrinsic ranges. When
-// opt.Alpha is nil, α is the candidate that maximises the DM's C·I; the
+// The performance-weighted pool on each question is the weighted linear
+// pool of the minimal-information distributions of the experts who
+// answered it (weights renormalised over them), and is scored like an
+// expert from its quantiles at the same probabilities on the same
+// intrinsic ranges (Cooke 1991 calls it the decision maker). When
+// opt.Alpha is nil, α is the candidate that maximises the pool's C·I; the
 // candidates are the experts' calibration scores (α = 0 gives the same
 // weights as the smallest), and ties go to the smaller α.
 //
@@ -358,8 +360,8 @@ func binOf(q []float64, x float64) int {
 	return n
 }
 
-// score computes expert scores, then weights and the DM for alpha (nil:
-// optimise).
+// score computes expert scores, then weights and the weighted pool for
+// alpha (nil: optimise).
 func (s *seedSet) score(alpha *float64) (Scores, error) {
 	out := Scores{Probs: s.probs, Overshoot: s.overshoot, Experts: make([]ExpertScore, len(s.experts))}
 	counts := make([][]int, len(s.experts))
@@ -402,12 +404,13 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 		out.Experts[e].Weight = w[e]
 	}
 	out.Alpha = a
-	out.Pooled, out.Questions = s.decisionMaker(w)
+	out.Pooled, out.Questions = s.weightedPool(w)
 	return out, nil
 }
 
 // bestAlpha returns the candidate cut-off (an expert's calibration score)
-// whose DM has the largest combined score; ties go to the smaller α.
+// whose weighted pool has the largest combined score; ties go to the
+// smaller α.
 func (s *seedSet) bestAlpha(es []ExpertScore) float64 {
 	var cands []float64
 	for _, e := range es {
@@ -421,9 +424,9 @@ func (s *seedSet) bestAlpha(es []ExpertScore) float64 {
 		if i > 0 && a == cands[i-1] {
 			continue
 		}
-		dm, _ := s.decisionMaker(cutWeights(es, a))
-		if dm.Combined > bestScore {
-			best, bestScore = a, dm.Combined
+		pool, _ := s.weightedPool(cutWeights(es, a))
+		if pool.Combined > bestScore {
+			best, bestScore = a, pool.Combined
 		}
 	}
 	return best
@@ -446,12 +449,12 @@ func cutWeights(es []ExpertScore, alpha float64) []float64 {
 	return w
 }
 
-// decisionMaker pools the experts on each question with weights w and
+// weightedPool pools the experts on each question with weights w and
 // scores the pool like an expert.
-func (s *seedSet) decisionMaker(w []float64) (PooledScore, []SeedResult) {
+func (s *seedSet) weightedPool(w []float64) (PooledScore, []SeedResult) {
 	res := make([]SeedResult, len(s.questions))
 	counts := make([]int, len(s.binP))
-	var dm PooledScore
+	var pooled PooledScore
 	info := 0.0
 	for i, q := range s.questions {
 		res[i] = SeedResult{Question: q.name, Realisation: q.realisation, Lower: q.lo, Upper: q.hi}
@@ -466,15 +469,15 @@ func (s *seedSet) decisionMaker(w []float64) (PooledScore, []SeedResult) {
 		res[i].Pooled = qs
 		counts[binOf(qs, q.realisation)]++
 		info += information(qs, s.binP, q.lo, q.hi)
-		dm.N++
+		pooled.N++
 	}
-	if dm.N == 0 {
-		return dm, res
+	if pooled.N == 0 {
+		return pooled, res
 	}
-	dm.Calibration = calibration(counts, dm.N, s.binP)
-	dm.Information = info / float64(dm.N)
-	dm.Combined = dm.Calibration * dm.Information
-	return dm, res
+	pooled.Calibration = calibration(counts, pooled.N, s.binP)
+	pooled.Information = info / float64(pooled.N)
+	pooled.Combined = pooled.Calibration * pooled.Information
+	return pooled, res
 }
 
 // poolQuestion is the weighted linear pool Σ wᵢ Fᵢ / Σ wᵢ of the

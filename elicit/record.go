@@ -38,8 +38,14 @@ type Record struct {
 	Questions []RecordQuestion `json:"questions"`
 	// Revisions is every saved answer, oldest first, with its fit.
 	Revisions []RecordRevision `json:"revisions"`
-	Weights   Weights          `json:"weights"`
-	Events    []Event          `json:"events"`
+	// Weights is the set in force; WeightHistory is every set applied,
+	// oldest first, each with what it was made from, so every pool the
+	// record shows (the current pools and each agreed prior's, through
+	// its weight_set_id) can be reproduced. WeightHistory is empty when
+	// no set was ever applied, and in records made before Parley kept it.
+	Weights       Weights   `json:"weights"`
+	WeightHistory []Weights `json:"weight_history"`
+	Events        []Event   `json:"events"`
 	// Performance is the scoring of the panel on the calibration questions
 	// by Cooke's classical model (record_scores.go), present once every
 	// calibration question's true value is revealed; PerformanceNote says
@@ -153,10 +159,13 @@ type RecordSource struct {
 	Workshop  Workshop
 	Questions []Question
 	Experts   []Expert
-	Revisions []Revision    // oldest first
-	Weights   Weights       // the current weights
-	Priors    []AgreedPrior // oldest first
-	Events    []Event       // oldest first
+	Revisions []Revision // oldest first
+	Weights   Weights    // the current weights
+	// WeightHistory is every weight set applied, oldest first; the last
+	// is Weights.
+	WeightHistory []Weights
+	Priors        []AgreedPrior // oldest first
+	Events        []Event       // oldest first
 }
 
 // BuildRecord builds the export document at time now. Every revision is
@@ -167,15 +176,16 @@ type RecordSource struct {
 // left out until the facilitator has revealed it.
 func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 	r := Record{
-		Format:    RecordFormat,
-		Generated: now.UTC(),
-		Caution:   Caution,
-		Workshop:  src.Workshop,
-		Experts:   append([]Expert{}, src.Experts...),
-		Questions: []RecordQuestion{},
-		Revisions: []RecordRevision{},
-		Weights:   src.Weights,
-		Events:    append([]Event{}, src.Events...),
+		Format:        RecordFormat,
+		Generated:     now.UTC(),
+		Caution:       Caution,
+		Workshop:      src.Workshop,
+		Experts:       append([]Expert{}, src.Experts...),
+		Questions:     []RecordQuestion{},
+		Revisions:     []RecordRevision{},
+		Weights:       src.Weights,
+		WeightHistory: []Weights{},
+		Events:        append([]Event{}, src.Events...),
 	}
 	questions := map[int64]Question{}
 	for _, q := range src.Questions {
@@ -184,6 +194,19 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 				q.ID, q.WorkshopID, src.Workshop.ID)
 		}
 		questions[q.ID] = q
+	}
+	// A weight set's basis shows a true value only once it is revealed,
+	// as the question does.
+	withheld := func(w Weights) Weights {
+		if w.Basis != nil {
+			b := w.Basis.withheld(questions)
+			w.Basis = &b
+		}
+		return w
+	}
+	r.Weights = withheld(r.Weights)
+	for _, w := range src.WeightHistory {
+		r.WeightHistory = append(r.WeightHistory, withheld(w))
 	}
 	latest := map[[2]int64]int{} // (question, expert) → index in r.Revisions
 	for _, rv := range src.Revisions {
@@ -317,20 +340,43 @@ func RecordFitOf(f Fit) *RecordFit {
 }
 
 // ForQuestion narrows the record to one question: its revisions, its
-// events and the workshop-wide events. The panel and weights stay whole.
+// events and the workshop-wide events. The panel and weights stay whole,
+// and so does the evidence behind any performance weights (the
+// calibration questions their bases scored or left out, and the
+// revisions they scored), so the narrowed record still reproduces the
+// question's pools.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
+	found := false
 	for _, q := range r.Questions {
-		if q.ID == id {
+		found = found || q.ID == id
+	}
+	if !found {
+		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, ErrNotFound)
+	}
+	for _, w := range r.WeightHistory {
+		if w.Basis == nil {
+			continue
+		}
+		for _, q := range w.Basis.Questions {
+			keepQ[q.QuestionID] = true
+		}
+		for _, q := range w.Basis.Skipped {
+			keepQ[q.ID] = true
+		}
+		for _, a := range w.Basis.CalibrationAnswers {
+			keepR[a.RevisionID] = true
+		}
+	}
+	for _, q := range r.Questions {
+		if keepQ[q.ID] {
 			out.Questions = append(out.Questions, q)
 		}
 	}
-	if len(out.Questions) == 0 {
-		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, ErrNotFound)
-	}
 	for _, rv := range r.Revisions {
-		if rv.QuestionID == id {
+		if rv.QuestionID == id || keepR[rv.ID] {
 			out.Revisions = append(out.Revisions, rv)
 		}
 	}
@@ -560,7 +606,7 @@ func (r Record) Validate() error {
 			return under(p+".answer", err)
 		}
 	}
-	if err := checkRecordWeights(r.Weights, w, experts); err != nil {
+	if err := r.checkWeightHistory(experts, questions); err != nil {
 		return err
 	}
 	seenE := map[int64]bool{}
@@ -663,14 +709,65 @@ func checkPrior(p string, ap AgreedPrior, q Question, w Workshop) error {
 	return nil
 }
 
-func checkRecordWeights(wt Weights, w Workshop, experts map[int64]bool) error {
+// checkWeightHistory checks the weights in force, every set in the
+// history with its basis, and that the history ends with the set in
+// force. A record without a history (made before Parley kept one) must
+// not name a set it does not carry.
+func (r Record) checkWeightHistory(experts map[int64]bool, questions map[int64]Question) error {
+	w := r.Workshop
+	if err := checkRecordWeights("weights", r.Weights, w, experts); err != nil {
+		return err
+	}
+	sets := map[int64]bool{}
+	var last Weights
+	for i, wt := range r.WeightHistory {
+		p := fmt.Sprintf("weight_history[%d]", i)
+		if err := checkRecordWeights(p, wt, w, experts); err != nil {
+			return err
+		}
+		if wt.ID <= last.ID {
+			return inputErr(p+".id", RuleUnknown, "set %d after set %d: the history runs oldest first", wt.ID, last.ID)
+		}
+		if wt.At.IsZero() {
+			return inputErr(p+".at", RuleRequired, "")
+		}
+		if wt.Basis != nil {
+			if err := checkBasis(p+".basis", *wt.Basis, wt, r, experts, questions); err != nil {
+				return err
+			}
+		}
+		sets[wt.ID], last = true, wt
+	}
+	switch {
+	case len(r.WeightHistory) > 0 && r.Weights.ID != last.ID:
+		return inputErr("weights.id", RuleUnknown, "set %d is in force, but the history ends with set %d", r.Weights.ID, last.ID)
+	case len(r.WeightHistory) == 0 && r.Weights.ID != 0:
+		return inputErr("weights.id", RuleUnknown, "set %d is not in weight_history", r.Weights.ID)
+	case r.Weights.Basis != nil && len(r.WeightHistory) == 0:
+		return inputErr("weights.basis", RuleUnknown, "a basis needs its set in weight_history")
+	}
+	for i, q := range r.Questions {
+		for j, ap := range q.PriorHistory {
+			if ap.WeightSetID != 0 && !sets[ap.WeightSetID] {
+				return inputErr(fmt.Sprintf("questions[%d].prior_history[%d].weight_set_id", i, j), RuleUnknown,
+					"no weight set %d in weight_history", ap.WeightSetID)
+			}
+		}
+	}
+	return nil
+}
+
+func checkRecordWeights(p string, wt Weights, w Workshop, experts map[int64]bool) error {
+	if wt.ID < 0 {
+		return inputErr(p+".id", RuleNonNegative, "got %d", wt.ID)
+	}
 	if wt.WorkshopID != w.ID {
-		return inputErr("weights.workshop_id", RuleUnknown, "%d is not the workshop's id %d", wt.WorkshopID, w.ID)
+		return inputErr(p+".workshop_id", RuleUnknown, "%d is not the workshop's id %d", wt.WorkshopID, w.ID)
 	}
 	switch wt.Scheme {
 	case WeightsEqual, WeightsCustom, WeightsPerformance:
 	default:
-		return inputErr("weights.scheme", RuleUnknown, "%q", wt.Scheme)
+		return inputErr(p+".scheme", RuleUnknown, "%q", wt.Scheme)
 	}
 	ids := make([]int64, 0, len(wt.ByExpert))
 	for id := range wt.ByExpert {
@@ -679,7 +776,7 @@ func checkRecordWeights(wt Weights, w Workshop, experts map[int64]bool) error {
 	sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
 	total := 0.0
 	for _, id := range ids {
-		f := fmt.Sprintf("weights.by_expert[%d]", id)
+		f := fmt.Sprintf("%s.by_expert[%d]", p, id)
 		if !experts[id] {
 			return inputErr(f, RuleUnknown, "no expert %d in the record", id)
 		}
@@ -693,9 +790,9 @@ func checkRecordWeights(wt Weights, w Workshop, experts map[int64]bool) error {
 		total += v
 	}
 	if wt.Scheme != WeightsEqual && total == 0 {
-		return inputErr("weights.by_expert", RuleWeightsNotAllZero, "")
+		return inputErr(p+".by_expert", RuleWeightsNotAllZero, "")
 	}
-	return checkText("weights.reason", wt.Reason, false, maxText)
+	return checkText(p+".reason", wt.Reason, false, maxText)
 }
 
 func checkRound(field string, round int, w Workshop) error {

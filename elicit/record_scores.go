@@ -29,7 +29,9 @@ type CalibrationSet struct {
 	// Experts are the active experts, in roster order.
 	Experts []Expert
 
-	Assessments  []SeedAssessment
+	Assessments []SeedAssessment
+	// RevisionIDs[i] is the revision whose answer Assessments[i] scores.
+	RevisionIDs  []int64
 	Realisations map[string]float64
 	Bounds       map[string][2]float64
 }
@@ -142,6 +144,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 				Expert: SeedExpertKey(e.ID), Question: key,
 				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
 			})
+			set.RevisionIDs = append(set.RevisionIDs, rv.ID)
 		}
 	}
 	return set
@@ -197,11 +200,11 @@ func probsText(ps []float64) string {
 
 // Performance is the record's account of performance weighting by Cooke's
 // classical model (see ClassicalModel): each expert's scores and weight on
-// the calibration questions, the cut-off α, the pooled decision maker's
-// scores and the robustness of the weights.
+// the calibration questions, the cut-off α, the performance-weighted
+// pool's scores and the robustness of the weights.
 type Performance struct {
 	// Alpha is the calibration cut-off; AlphaRule says whether it was
-	// chosen to maximise the decision maker's combined score
+	// chosen to maximise the performance-weighted pool's combined score
 	// ("optimised") or set by the facilitator ("fixed").
 	Alpha     float64   `json:"alpha"`
 	AlphaRule string    `json:"alpha_rule"`
@@ -213,6 +216,9 @@ type Performance struct {
 	Answers string              `json:"answers"`
 	Experts []PerformanceExpert `json:"experts"`
 	Pooled  PooledScore         `json:"pooled"`
+	// Warnings say where the weighting rests on weak ground
+	// (CalibrationWarnings).
+	Warnings []Warning `json:"warnings"`
 	// InForce reports whether the workshop's current pool weights are
 	// these performance weights.
 	InForce bool `json:"in_force"`
@@ -245,7 +251,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 		return Performance{}, inputErr("calibration_questions", RuleRequired,
 			"scoring needs answered calibration questions, each with its true value")
 	}
-	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha})
+	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha, Overshoot: DefaultOvershoot})
 	if err != nil {
 		return Performance{}, err
 	}
@@ -271,6 +277,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 			Calibration: es.Calibration, Information: es.Information, Combined: es.Combined, Weight: es.Weight,
 		})
 	}
+	p.Warnings = CalibrationWarnings(len(p.Questions), p.Experts)
 	return p, nil
 }
 
@@ -435,22 +442,34 @@ type Robustness struct {
 	// Targets are the IDs of the questions watched: the target questions
 	// with a fitted judgement, or the scored calibration questions when
 	// there are none.
-	Targets []int64         `json:"targets"`
-	Rows    []RobustnessRow `json:"rows"`
+	Targets []int64 `json:"targets"`
+	// Full are the whole panel's performance-weighted pools on the
+	// targets, one per target.
+	Full []TargetPool    `json:"full"`
+	Rows []RobustnessRow `json:"rows"`
 	// Largest is the largest Shift of any row.
 	Largest float64 `json:"largest"`
 }
 
+// TargetPool is the 5th, 50th and 95th percentiles of a pool on one
+// watched question.
+type TargetPool struct {
+	QuestionID  int64       `json:"question_id"`
+	Percentiles Percentiles `json:"percentiles"`
+}
+
 // RobustnessRow is LeaveOneOutCase with the left-out question or expert
-// named by ID. Shifts[t] is the largest change of the pooled 5th, 50th or
-// 95th percentile on Targets[t], as a fraction of the question's range;
-// Shift is the largest over targets.
+// named by ID. Pools are this rerun's pools on the targets where it has
+// one. Shifts[t] is the largest change of the pooled 5th, 50th or 95th
+// percentile on Targets[t], as a fraction of the question's range; Shift
+// is the largest over targets.
 type RobustnessRow struct {
 	LeftOut  string         `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
 	ID       int64          `json:"id"`
 	Label    string         `json:"label"`
 	Alpha    float64        `json:"alpha"`
 	Weights  []ExpertWeight `json:"weights"`
+	Pools    []TargetPool   `json:"pools"`
 	Shifts   []float64      `json:"shifts"`
 	Shift    float64        `json:"shift"`
 	Unpooled []int64        `json:"unpooled,omitempty"`
@@ -486,13 +505,23 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	if err != nil {
 		return Robustness{}, err
 	}
-	rb := Robustness{Largest: rep.MaxShift, Targets: []int64{}, Rows: []RobustnessRow{}}
+	rb := Robustness{Largest: rep.MaxShift, Targets: []int64{}, Full: []TargetPool{}, Rows: []RobustnessRow{}}
+	pools := func(qs [][]float64) []TargetPool {
+		out := []TargetPool{}
+		for t, q := range qs {
+			if len(q) == 3 {
+				out = append(out, TargetPool{QuestionID: ids[rep.Targets[t]], Percentiles: Percentiles{q[0], q[1], q[2]}})
+			}
+		}
+		return out
+	}
 	for _, t := range rep.Targets {
 		rb.Targets = append(rb.Targets, ids[t])
 	}
+	rb.Full = pools(rep.Full)
 	for _, c := range rep.Cases {
 		row := RobustnessRow{LeftOut: c.LeftOut, ID: ids[c.Name], Label: labels[c.Name], Alpha: c.Alpha,
-			Weights: []ExpertWeight{}, Shifts: c.Shifts, Shift: c.Shift, Error: c.Error}
+			Weights: []ExpertWeight{}, Pools: pools(c.Percentiles), Shifts: c.Shifts, Shift: c.Shift, Error: c.Error}
 		if row.Shifts == nil {
 			row.Shifts = []float64{}
 		}

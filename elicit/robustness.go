@@ -25,22 +25,25 @@ type RobustnessTarget struct {
 }
 
 // LeaveOneOutCase is the classical model rerun without one calibration
-// question or one expert. Shifts[t] is the largest of |Δq₀.₀₅|, |Δq₀.₅|,
-// |Δq₀.₉₅| on target t between this case's pool and the full panel's, in
-// units of the target's width (Upper − Lower of the fits, or U* − L* of a
-// calibration question), so for a proportion on [0, 1] it is the
-// absolute shift. Shift is the largest over targets. Unpooled names the
-// targets on which no expert with weight remains. Error, when set, says
-// why the rerun failed; the shifts are then empty.
+// question or one expert. Percentiles[t] are this case's pooled 5th, 50th
+// and 95th percentiles on target t (nil when it has no pool there).
+// Shifts[t] is the largest of |Δq₀.₀₅|, |Δq₀.₅|, |Δq₀.₉₅| on target t
+// between this case's pool and the full panel's, in units of the
+// target's width (Upper − Lower of the fits, or U* − L* of a calibration
+// question), so for a proportion on [0, 1] it is the absolute shift.
+// Shift is the largest over targets. Unpooled names the targets on which
+// no expert with weight remains. Error, when set, says why the rerun
+// failed; the shifts are then empty.
 type LeaveOneOutCase struct {
-	LeftOut  string             `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
-	Name     string             `json:"name"`
-	Alpha    float64            `json:"alpha"`
-	Weights  map[string]float64 `json:"weights"`
-	Shifts   []float64          `json:"shifts"`
-	Shift    float64            `json:"shift"`
-	Unpooled []string           `json:"unpooled,omitempty"`
-	Error    string             `json:"error,omitempty"`
+	LeftOut     string             `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
+	Name        string             `json:"name"`
+	Alpha       float64            `json:"alpha"`
+	Weights     map[string]float64 `json:"weights"`
+	Percentiles [][]float64        `json:"percentiles,omitempty"`
+	Shifts      []float64          `json:"shifts"`
+	Shift       float64            `json:"shift"`
+	Unpooled    []string           `json:"unpooled,omitempty"`
+	Error       string             `json:"error,omitempty"`
 }
 
 // LeaveOneOutReport is the outcome of LeaveOneOut. Full[t] are the full
@@ -97,12 +100,14 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 		}
 		c.Alpha, c.Weights = s.Alpha, s.Weights()
 		c.Shifts = make([]float64, len(watch))
+		c.Percentiles = make([][]float64, len(watch))
 		for t, w := range watch {
 			qs, ok := w.percentiles(c.Weights)
 			if !ok || rep.Full[t] == nil {
 				c.Unpooled = append(c.Unpooled, w.name)
 				continue
 			}
+			c.Percentiles[t] = qs
 			for i := range qs {
 				c.Shifts[t] = math.Max(c.Shifts[t], math.Abs(qs[i]-rep.Full[t][i])/w.width)
 			}

@@ -70,6 +70,9 @@ func TestLeaveOneOutBetaTargets(t *testing.T) {
 		want := 0.0
 		for i := range got {
 			want = math.Max(want, math.Abs(got[i]-base[i]))
+			if len(c.Percentiles) != 1 || math.Abs(c.Percentiles[0][i]-got[i]) > 1e-15 {
+				t.Errorf("%s %s: pooled percentiles %v, want %v", c.LeftOut, c.Name, c.Percentiles, got)
+			}
 		}
 		if c.Error != "" || math.Abs(c.Shift-want) > 1e-15 || c.Alpha != s.Alpha {
 			t.Errorf("%s %s: shift %v alpha %v err %q, want %v alpha %v", c.LeftOut, c.Name, c.Shift, c.Alpha, c.Error, want, s.Alpha)

@@ -229,13 +229,23 @@ const (
 	WeightsPerformance WeightScheme = "performance" // Cooke's classical model
 )
 
-// Weights are the facilitator's current pool weights for a workshop.
+// Weights are a set of pool weights the facilitator applied to a
+// workshop; the latest set is in force. Sets are never changed.
 type Weights struct {
-	WorkshopID int64             `json:"workshop_id"`
-	Scheme     WeightScheme      `json:"scheme"`
-	ByExpert   map[int64]float64 `json:"by_expert,omitempty"` // unnormalised; empty for equal
-	Reason     string            `json:"reason,omitempty"`
-	At         time.Time         `json:"at"`
+	// ID identifies the stored set; 0 for the equal weights a workshop
+	// has before any set is applied.
+	ID         int64        `json:"id,omitempty"`
+	WorkshopID int64        `json:"workshop_id"`
+	Scheme     WeightScheme `json:"scheme"`
+	// ByExpert are the weights as applied, unnormalised: for custom
+	// weights the facilitator's own inputs as typed; empty for equal.
+	ByExpert map[int64]float64 `json:"by_expert,omitempty"`
+	Reason   string            `json:"reason,omitempty"`
+	At       time.Time         `json:"at"`
+	// Basis is what performance weights were made from (calibration_basis.go);
+	// nil for equal and custom weights, and for performance weights set
+	// before Parley kept it.
+	Basis *WeightBasis `json:"basis,omitempty"`
 }
 
 // Of is the unnormalised pool weight of an expert: 1 under equal weights
@@ -272,8 +282,13 @@ type AgreedPrior struct {
 	// RoundOpen is set when the prior was agreed while its round was
 	// still open, after the facilitator confirmed it: answers could still
 	// change after the agreement.
-	RoundOpen bool      `json:"while_round_open,omitempty"`
-	At        time.Time `json:"at"`
+	RoundOpen bool `json:"while_round_open,omitempty"`
+	// WeightSetID is the weight set in force when the prior was agreed
+	// (Weights.ID), so a prior taken from the pool can be traced to the
+	// weights that made the pool; 0 when no set had been applied (equal
+	// weights) or the prior predates this link.
+	WeightSetID int64     `json:"weight_set_id,omitempty"`
+	At          time.Time `json:"at"`
 }
 
 // DeletedWorkshop is what is left of a workshop deleted before anyone

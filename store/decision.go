@@ -8,14 +8,17 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
 
 // SetWeights records the facilitator's pool weights for a workshop with
-// EventWeightsSet, in one transaction. Every weighted expert must be on the
-// workshop's panel; weights must be finite, not negative and, unless the
-// scheme is equal, not all zero. It sets w.At.
+// EventWeightsSet, in one transaction, with what performance weights were
+// made from (w.Basis) kept beside them. Every weighted expert must be on
+// the workshop's panel; weights must be finite, not negative and, unless
+// the scheme is equal, not all zero; only performance weights have a
+// basis. It sets w.ID and w.At.
 func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 	if err := checkWeights(*w); err != nil {
 		return err
@@ -26,6 +29,10 @@ func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 	}
 	if len(w.ByExpert) == 0 {
 		byExpert = []byte("{}")
+	}
+	basis, err := marshalBasis(w.Basis)
+	if err != nil {
+		return err
 	}
 	at := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
@@ -42,9 +49,8 @@ func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 				return fmt.Errorf("store: set weights: %w", err)
 			}
 		}
-		if _, err := tx.ExecContext(ctx,
-			`INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`,
-			w.WorkshopID, string(w.Scheme), string(byExpert), w.Reason, formatTime(at)); err != nil {
+		id, err := insertWeights(ctx, tx, w.WorkshopID, string(w.Scheme), string(byExpert), w.Reason, at, basis)
+		if err != nil {
 			return fmt.Errorf("store: set weights: %w", err)
 		}
 		detail := fmt.Sprintf(`{"scheme":%q,"by_expert":%s}`, w.Scheme, byExpert)
@@ -53,9 +59,37 @@ func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 		}); err != nil {
 			return err
 		}
-		w.At = at
+		w.ID, w.At = id, at
 		return nil
 	})
+}
+
+// insertWeights writes one weight set. A set without a basis leaves the
+// column out, so it can be written at a schema version before the basis
+// (the migration test writes data at every version).
+func insertWeights(ctx context.Context, tx *sql.Tx, workshopID int64, scheme, byExpert, reason string, at time.Time, basis any) (int64, error) {
+	q := `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`
+	args := []any{workshopID, scheme, byExpert, reason, formatTime(at)}
+	if basis != nil {
+		q = `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at, basis) VALUES (?, ?, ?, ?, ?, ?)`
+		args = append(args, basis)
+	}
+	res, err := tx.ExecContext(ctx, q, args...)
+	if err != nil {
+		return 0, err
+	}
+	return res.LastInsertId()
+}
+
+func marshalBasis(b *elicit.WeightBasis) (any, error) {
+	if b == nil {
+		return nil, nil
+	}
+	out, err := json.Marshal(b)
+	if err != nil {
+		return nil, fmt.Errorf("store: weight basis: %w", err)
+	}
+	return string(out), nil
 }
 
 func checkWeights(w elicit.Weights) error {
@@ -79,6 +113,9 @@ func checkWeights(w elicit.Weights) error {
 	if w.Scheme != elicit.WeightsEqual && total == 0 {
 		return &elicit.InputError{Field: "weights", Rule: elicit.RuleWeightsNotAllZero}
 	}
+	if w.Basis != nil && w.Scheme != elicit.WeightsPerformance {
+		return &elicit.InputError{Field: "basis", Rule: elicit.RuleUnknown, Detail: "only performance weights have a basis"}
+	}
 	return nil
 }
 
@@ -97,17 +134,57 @@ func (db *DB) Weights(ctx context.Context, workshopID int64) (elicit.Weights, er
 	return readWeights(ctx, db.r, workshopID)
 }
 
+const weightColumns = `id, workshop_id, scheme, by_expert, reason, at, basis`
+
 func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weights, error) {
-	w := elicit.Weights{WorkshopID: workshopID, Scheme: elicit.WeightsEqual}
-	var scheme, byExpert, at string
-	err := db.QueryRowContext(ctx,
-		`SELECT scheme, by_expert, reason, at FROM weight_sets WHERE workshop_id = ? ORDER BY id DESC LIMIT 1`,
-		workshopID).Scan(&scheme, &byExpert, &w.Reason, &at)
+	row := db.QueryRowContext(ctx,
+		`SELECT `+weightColumns+` FROM weight_sets WHERE workshop_id = ? ORDER BY id DESC LIMIT 1`, workshopID)
+	w, err := scanWeights(row)
 	if errors.Is(err, sql.ErrNoRows) {
 		if _, err := readWorkshop(ctx, db, workshopID); err != nil {
 			return elicit.Weights{}, err
 		}
-		return w, nil
+		return elicit.Weights{WorkshopID: workshopID, Scheme: elicit.WeightsEqual}, nil
+	}
+	return w, err
+}
+
+// WeightHistory returns every weight set applied to a workshop, oldest
+// first, each with its basis; the last is in force. It is empty when no
+// set was ever applied.
+func (db *DB) WeightHistory(ctx context.Context, workshopID int64) ([]elicit.Weights, error) {
+	return readWeightHistory(ctx, db.r, workshopID)
+}
+
+func readWeightHistory(ctx context.Context, db querier, workshopID int64) ([]elicit.Weights, error) {
+	if _, err := readWorkshop(ctx, db, workshopID); err != nil {
+		return nil, err
+	}
+	rows, err := db.QueryContext(ctx, `SELECT `+weightColumns+` FROM weight_sets WHERE workshop_id = ? ORDER BY id`, workshopID)
+	if err != nil {
+		return nil, fmt.Errorf("store: weight history: %w", err)
+	}
+	defer rows.Close()
+	out := []elicit.Weights{}
+	for rows.Next() {
+		w, err := scanWeights(rows)
+		if err != nil {
+			return nil, err
+		}
+		out = append(out, w)
+	}
+	return out, rows.Err()
+}
+
+func scanWeights(row interface{ Scan(...any) error }) (elicit.Weights, error) {
+	var (
+		w                    elicit.Weights
+		scheme, byExpert, at string
+		basis                sql.NullString
+	)
+	err := row.Scan(&w.ID, &w.WorkshopID, &scheme, &byExpert, &w.Reason, &at, &basis)
+	if errors.Is(err, sql.ErrNoRows) {
+		return elicit.Weights{}, err
 	}
 	if err != nil {
 		return elicit.Weights{}, fmt.Errorf("store: weights: %w", err)
@@ -118,6 +195,12 @@ func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weig
 	}
 	if len(w.ByExpert) == 0 {
 		w.ByExpert = nil
+	}
+	if basis.Valid {
+		w.Basis = new(elicit.WeightBasis)
+		if err := json.Unmarshal([]byte(basis.String), w.Basis); err != nil {
+			return elicit.Weights{}, fmt.Errorf("store: bad stored weight basis of set %d: %w", w.ID, err)
+		}
 	}
 	w.At, err = parseTime(at)
 	return w, err
@@ -161,8 +244,14 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 		if open == 1 && !p.RoundOpen {
 			return fmt.Errorf("store: agree prior in round %d: %w", round, elicit.ErrRoundStillOpen)
 		}
+		// The weights in force, so a prior from the pool can be traced to
+		// the weights that made the pool.
+		var set sql.NullInt64
+		if err := tx.QueryRowContext(ctx, `SELECT MAX(id) FROM weight_sets WHERE workshop_id = ?`, workshopID).Scan(&set); err != nil {
+			return fmt.Errorf("store: agree prior: %w", err)
+		}
 		stored := *p
-		stored.Round, stored.At, stored.RoundOpen = round, at, open == 1
+		stored.Round, stored.At, stored.RoundOpen, stored.WeightSetID = round, at, open == 1, set.Int64
 		id, err := insertPrior(ctx, tx, stored, consensus)
 		if err != nil {
 			return err
@@ -178,7 +267,7 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 		}); err != nil {
 			return err
 		}
-		p.ID, p.Round, p.At, p.RoundOpen = id, round, at, stored.RoundOpen
+		p.ID, p.Round, p.At, p.RoundOpen, p.WeightSetID = id, round, at, stored.RoundOpen, stored.WeightSetID
 		return nil
 	})
 }
@@ -196,10 +285,10 @@ func marshalConsensus(a *elicit.Answer) (any, error) {
 
 func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensus any) (int64, error) {
 	res, err := tx.ExecContext(ctx,
-		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, at)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, weight_set_id, at)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
-		consensus, p.Rationale, p.Round, boolInt(p.RoundOpen), formatTime(p.At))
+		consensus, p.Rationale, p.Round, boolInt(p.RoundOpen), nullID(p.WeightSetID), formatTime(p.At))
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
 	}
@@ -219,7 +308,7 @@ func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.Agre
 func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.AgreedPrior, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
-		        p.rationale, p.round, p.round_open, p.at
+		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at
 		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id
 		 WHERE q.workshop_id = ? ORDER BY p.id`, workshopID)
 	if err != nil {
@@ -233,13 +322,14 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.Agr
 			source, at string
 			consensus  sql.NullString
 			roundOpen  int
+			set        sql.NullInt64
 		)
 		if err := rows.Scan(&p.ID, &p.QuestionID, &source, &p.Dist.Alpha, &p.Dist.Beta.Beta,
-			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &at); err != nil {
+			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at); err != nil {
 			return nil, fmt.Errorf("store: read agreed prior: %w", err)
 		}
 		p.Source = elicit.PriorSource(source)
-		p.RoundOpen = roundOpen == 1
+		p.RoundOpen, p.WeightSetID = roundOpen == 1, set.Int64
 		if consensus.Valid {
 			p.Consensus = new(elicit.Answer)
 			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {
@@ -252,4 +342,12 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.Agr
 		ps = append(ps, p)
 	}
 	return ps, rows.Err()
+}
+
+// nullID stores an optional reference: 0 means none.
+func nullID(id int64) any {
+	if id == 0 {
+		return nil
+	}
+	return id
 }

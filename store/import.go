@@ -24,7 +24,8 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 	}
 	var workshopID int64
 	err := db.write(ctx, func(tx *sql.Tx) error {
-		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{}}
+		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{},
+			weightSets: map[int64]int64{}}
 		var err error
 		if workshopID, err = imp.workshop(rec.Workshop); err != nil {
 			return err
@@ -49,8 +50,17 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 				return err
 			}
 		}
-		if err := imp.weights(workshopID, rec.Weights); err != nil {
-			return err
+		// The whole history of weight sets with their bases; a record
+		// made before Parley kept the history carries only the set in
+		// force.
+		history := rec.WeightHistory
+		if len(history) == 0 {
+			history = []elicit.Weights{rec.Weights}
+		}
+		for _, wt := range history {
+			if err := imp.weights(workshopID, wt); err != nil {
+				return err
+			}
 		}
 		for _, q := range rec.Questions {
 			for _, ap := range q.PriorHistory {
@@ -81,6 +91,8 @@ type importer struct {
 	questions map[int64]int64
 	experts   map[int64]int64
 	revisions map[int64]int64
+	// weightSets maps a record's weight set IDs to the new ones.
+	weightSets map[int64]int64
 }
 
 func (imp importer) insert(query string, args ...any) (int64, error) {
@@ -177,10 +189,10 @@ func (imp importer) frozenThrough(q elicit.Question, revs []elicit.RecordRevisio
 	return nil
 }
 
-// weights writes the record's current weights unless they are the
-// default (equal, never set).
+// weights writes one weight set of the record, with its basis, unless it
+// is the default (equal, never set).
 func (imp importer) weights(workshopID int64, w elicit.Weights) error {
-	if w.At.IsZero() && w.Scheme == elicit.WeightsEqual && len(w.ByExpert) == 0 {
+	if w.ID == 0 && w.At.IsZero() && w.Scheme == elicit.WeightsEqual && len(w.ByExpert) == 0 {
 		return nil
 	}
 	byExpert := map[int64]float64{}
@@ -191,12 +203,45 @@ func (imp importer) weights(workshopID int64, w elicit.Weights) error {
 	if err != nil {
 		return fmt.Errorf("weights: %w", err)
 	}
-	_, err = imp.insert(`INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`,
-		workshopID, string(w.Scheme), string(b), w.Reason, formatTime(w.At))
+	basis, err := marshalBasis(imp.basis(w.Basis))
 	if err != nil {
-		return fmt.Errorf("weights: %w", err)
+		return err
+	}
+	id, err := insertWeights(imp.ctx, imp.tx, workshopID, string(w.Scheme), string(b), w.Reason, w.At, basis)
+	if err != nil {
+		return fmt.Errorf("weight set %d: %w", w.ID, err)
+	}
+	if w.ID != 0 {
+		imp.weightSets[w.ID] = id
 	}
 	return nil
+}
+
+// basis is a weight set's basis with the new IDs of its experts,
+// questions and revisions.
+func (imp importer) basis(b *elicit.WeightBasis) *elicit.WeightBasis {
+	if b == nil {
+		return nil
+	}
+	out := *b
+	out.Questions = append([]elicit.BasisQuestion(nil), b.Questions...)
+	for i := range out.Questions {
+		out.Questions[i].QuestionID = imp.questions[out.Questions[i].QuestionID]
+	}
+	out.CalibrationAnswers = append([]elicit.BasisAnswer(nil), b.CalibrationAnswers...)
+	for i := range out.CalibrationAnswers {
+		a := &out.CalibrationAnswers[i]
+		a.ExpertID, a.QuestionID, a.RevisionID = imp.experts[a.ExpertID], imp.questions[a.QuestionID], imp.revisions[a.RevisionID]
+	}
+	out.Skipped = append([]elicit.SkippedQuestion(nil), b.Skipped...)
+	for i := range out.Skipped {
+		out.Skipped[i].ID = imp.questions[out.Skipped[i].ID]
+	}
+	out.Experts = append([]elicit.PerformanceExpert(nil), b.Experts...)
+	for i := range out.Experts {
+		out.Experts[i].ExpertID = imp.experts[out.Experts[i].ExpertID]
+	}
+	return &out
 }
 
 func (imp importer) prior(ap elicit.AgreedPrior) error {
@@ -204,7 +249,7 @@ func (imp importer) prior(ap elicit.AgreedPrior) error {
 	if err != nil {
 		return err
 	}
-	ap.QuestionID = imp.questions[ap.QuestionID]
+	ap.QuestionID, ap.WeightSetID = imp.questions[ap.QuestionID], imp.weightSets[ap.WeightSetID]
 	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus); err != nil {
 		return fmt.Errorf("agreed prior %d: %w", ap.ID, err)
 	}

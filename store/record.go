@@ -33,6 +33,9 @@ func (db *DB) Source(ctx context.Context, workshopID int64) (elicit.RecordSource
 	if src.Weights, err = readWeights(ctx, tx, workshopID); err != nil {
 		return src, err
 	}
+	if src.WeightHistory, err = readWeightHistory(ctx, tx, workshopID); err != nil {
+		return src, err
+	}
 	if src.Priors, err = readPriors(ctx, tx, workshopID); err != nil {
 		return src, err
 	}

@@ -4,12 +4,13 @@ import (
 	"errors"
 	"net/http"
 	"net/url"
+	"sort"
 	"strconv"
+	"strings"
 
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
-	"github.com/parley-elicit/parley/web/chart"
 )
 
 // calibrationRoutes are a workshop's calibration pages: true values, the
@@ -49,15 +50,15 @@ type calibrationView struct {
 	AlphaForm *Form
 	Perf      *elicit.Performance
 	PerfError string
-	Scores    []chart.ScoreRow
+	Questions []elicit.Question // the workshop's, for labels and bounds
+	Names     map[int64]string  // experts' names by ID
 
 	Robustness      *elicit.Robustness
 	RobustnessError string
 
 	Compare     []elicit.PoolComparison
-	Labels      map[int64]string // "Q1 quantity" by question ID
-	Weights     elicit.Weights   // in force
-	InForce     bool             // the weights in force are these performance weights
+	Weights     elicit.Weights // in force
+	InForce     bool           // the weights in force are these performance weights
 	Experts     []elicit.Expert
 	WeightsForm *Form
 }
@@ -108,10 +109,8 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 	v := calibrationView{
 		Workshop: ws, Skipped: set.Skipped, Pending: len(set.Pending), Scored: len(set.Questions), Ready: set.Ready(), Probs: set.Probs,
-		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts, Labels: map[int64]string{},
-	}
-	for _, q := range d.Questions {
-		v.Labels[q.ID] = "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts,
+		Questions: d.Questions, Names: expertNames(d.Experts),
 	}
 	for _, q := range d.Questions {
 		if !q.Calibration {
@@ -144,11 +143,6 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()
-			for _, e := range p.Experts {
-				if e.Answered > 0 {
-					v.Scores = append(v.Scores, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, Information: e.Information, Weight: e.Weight})
-				}
-			}
 			if inForce, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}
@@ -243,8 +237,9 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 // setCalibrationWeights records the pool weights chosen on the
 // calibration page, with the required reason. Performance weights are the
 // classical model's weights on the experts' current answers with the
-// page's cut-off (optimised when empty); custom weights are typed per
-// expert, as on a question's panel.
+// page's cut-off (optimised when empty), stored with their basis
+// (elicit.WeightBasis); custom weights are typed per expert, as on a
+// question's panel, and stored as typed.
 func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok || !parseForm(w, r) {
@@ -275,7 +270,10 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 			f.Fail(err, map[string]string{"experts": "scheme"})
 			break
 		}
-		wt.ByExpert = p.WeightsByExpert()
+		// The set keeps what made it: scores, cut-off, true values and
+		// the answers scored.
+		basis := elicit.NewWeightBasis(set, p)
+		wt.ByExpert, wt.Basis = p.WeightsByExpert(), &basis
 	case elicit.WeightsCustom:
 		wt.ByExpert = map[int64]float64{}
 		for _, e := range d.Experts {
@@ -316,4 +314,165 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 func isInputError(err error) bool {
 	var ie *elicit.InputError
 	return errors.As(err, &ie)
+}
+
+// strengthView is the warnings block about a performance weighting
+// (elicit.CalibrationWarnings) and the sentence that says which weighting
+// it is about. It is empty when there is nothing to warn of.
+type strengthView struct {
+	Lead     string
+	Warnings []elicit.Warning
+}
+
+// panelStrength is the warnings block of a question's panel: about the
+// performance weights in force, as the weight set's basis stored them
+// (sets older than the basis are scored again); otherwise about the performance weights the
+// calibration page offers, once every scored calibration question has
+// its true value.
+func panelStrength(d workshopData) strengthView {
+	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	if d.Weights.Scheme == elicit.WeightsPerformance {
+		v := strengthView{Lead: "The performance weights in force rest on weak ground:"}
+		if b := d.Weights.Basis; b != nil {
+			v.Warnings = b.Warnings
+		} else if set.Ready() {
+			if p, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
+				v.Warnings = p.Warnings
+			}
+		}
+		return v
+	}
+	if !set.Ready() {
+		return strengthView{}
+	}
+	p, err := elicit.ScorePerformance(set, nil)
+	if err != nil {
+		return strengthView{}
+	}
+	return strengthView{Lead: "Performance weights from the calibration page would rest on weak ground:", Warnings: p.Warnings}
+}
+
+// basisInForce is the basis of the record's weights in force, when they
+// are performance weights that keep one.
+func basisInForce(r elicit.Record) *elicit.WeightBasis {
+	if r.Weights.Scheme != elicit.WeightsPerformance {
+		return nil
+	}
+	return r.Weights.Basis
+}
+
+// weightSetRow is one weight set of a record's history as the report
+// lists it.
+type weightSetRow struct {
+	Set      elicit.Weights
+	Scheme   string
+	Weights  string // each expert's weight in words
+	MadeFrom string
+	Weak     string // the basis's warnings, briefly
+	Priors   string // agreed priors recorded under the set
+	InForce  bool
+}
+
+// weightSetRows lists every weight set of the record, oldest first, with
+// what it was made from and the agreed priors recorded while it was in
+// force (elicit.AgreedPrior.WeightSetID).
+func weightSetRows(r elicit.Record) []weightSetRow {
+	names := map[int64]string{}
+	for _, e := range r.Experts {
+		names[e.ID] = e.Name
+	}
+	labels := recordLabels(r)
+	priors := map[int64][]string{}
+	for _, q := range r.Questions {
+		for _, ap := range q.PriorHistory {
+			if ap.WeightSetID != 0 {
+				priors[ap.WeightSetID] = append(priors[ap.WeightSetID], labels[q.ID]+" ("+ap.At.UTC().Format("2006-01-02 15:04 UTC")+", "+string(ap.Source)+")")
+			}
+		}
+	}
+	var rows []weightSetRow
+	for _, w := range r.WeightHistory {
+		row := weightSetRow{Set: w, InForce: w.ID == r.Weights.ID, Priors: strings.Join(priors[w.ID], "; ")}
+		switch w.Scheme {
+		case elicit.WeightsEqual:
+			row.Scheme, row.Weights, row.MadeFrom = "equal", "every active expert alike", "—"
+		case elicit.WeightsCustom:
+			row.Scheme, row.MadeFrom = "set by the facilitator", "the facilitator's own weights, as typed (each share is its weight over their sum)"
+			row.Weights = weightList(w.ByExpert, names, func(v float64) string { return fv(v) })
+		case elicit.WeightsPerformance:
+			row.Scheme = "performance"
+			if b := w.Basis; b != nil {
+				row.Weights = weightList(b.WeightsByExpert(), names, pct)
+				row.MadeFrom = basisSentence(*b, labels)
+				var weak []string
+				for _, wn := range b.Warnings {
+					weak = append(weak, strengthShort(wn.Code))
+				}
+				row.Weak = strings.Join(weak, "; ")
+			} else {
+				row.Weights = weightList(w.ByExpert, names, func(v float64) string { return fv(v) })
+				row.MadeFrom = "Cooke's classical model; the scores behind these weights were not stored (set before Parley kept them)"
+			}
+		default:
+			row.Scheme = string(w.Scheme)
+		}
+		rows = append(rows, row)
+	}
+	return rows
+}
+
+// weightList writes weights by expert in roster order of IDs.
+func weightList(w map[int64]float64, names map[int64]string, format func(float64) string) string {
+	ids := make([]int64, 0, len(w))
+	for id := range w {
+		ids = append(ids, id)
+	}
+	sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
+	parts := make([]string, len(ids))
+	for i, id := range ids {
+		n, ok := names[id]
+		if !ok {
+			n = "expert " + strconv.FormatInt(id, 10)
+		}
+		parts[i] = n + " " + format(w[id])
+	}
+	return strings.Join(parts, ", ")
+}
+
+// basisSentence says in words what a set of performance weights was made
+// from.
+func basisSentence(b elicit.WeightBasis, labels map[int64]string) string {
+	var qs []string
+	for _, q := range b.Questions {
+		l, ok := labels[q.QuestionID]
+		if !ok {
+			l = "question " + strconv.FormatInt(q.QuestionID, 10)
+		}
+		if q.TrueValue != nil {
+			l += " (true value " + fv(*q.TrueValue) + ")"
+		} else {
+			l += " (true value withheld until revealed)"
+		}
+		qs = append(qs, l)
+	}
+	rule := "optimised"
+	if b.AlphaRule == elicit.AlphaFixed {
+		rule = "fixed by the facilitator"
+	}
+	return "Cooke's classical model on " + strconv.Itoa(len(b.Questions)) + " calibration " + plural(len(b.Questions), "question", "questions") +
+		": " + strings.Join(qs, "; ") + ". " + strconv.Itoa(len(b.CalibrationAnswers)) + " " + plural(len(b.CalibrationAnswers), "answer", "answers") +
+		" scored, quantiles at " + probsLabel(b.Probs) + "; cut-off α = " + fv(b.Alpha) + ", " + rule + "."
+}
+
+// strengthShort names a calibration warning in a few words.
+func strengthShort(c elicit.WarningCode) string {
+	switch c {
+	case elicit.WarnFewCalibrationQuestions:
+		return "fewer than " + strconv.Itoa(elicit.RecommendedCalibrationQuestions) + " calibration questions"
+	case elicit.WarnOneExpertDominates:
+		return "one expert has more than " + pct(elicit.DominantWeight) + " of the weight"
+	case elicit.WarnUnequalCalibrationAnswers:
+		return "experts answered different numbers of calibration questions"
+	}
+	return string(c)
 }

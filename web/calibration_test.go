@@ -191,21 +191,37 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 	sc := model(t, nil)
 	for _, e := range sc.Experts {
 		got := rowCells(t, body, "scores-table", e.Expert)
-		want := []string{"3", fv(e.Calibration), fv(e.Information), fv(e.Combined), pct(e.Weight)}
-		if strings.Join(got, "|") != strings.Join(want, "|") {
-			t.Errorf("%s: row %v, want %v", e.Expert, got, want)
+		want := []string{"3", fv(e.Calibration), fv(e.Information), pct(e.Weight)}
+		if len(got) != 5 || strings.Join(got[:4], "|") != strings.Join(want, "|") {
+			t.Errorf("%s: row %v, want %v and why", e.Expert, got, want)
+			continue
+		}
+		// Why: the product that earns the weight, or the cut-off that
+		// takes it away.
+		why := "earns " + fv(e.Calibration) + " × " + fv(e.Information) + " = " + fv(e.Combined)
+		if e.Weight == 0 {
+			why = "calibration score " + fv(e.Calibration) + " is below the cut-off " + fv(sc.Alpha)
+		}
+		if !strings.HasPrefix(got[4], htmlEscape(why)) {
+			t.Errorf("%s: why %q, want %q", e.Expert, got[4], why)
 		}
 	}
-	dm := rowCells(t, body, "scores-table", "Pooled decision maker (performance weights)")
-	if want := []string{"3", fv(sc.Pooled.Calibration), fv(sc.Pooled.Information), fv(sc.Pooled.Combined), "—"}; strings.Join(dm, "|") != strings.Join(want, "|") {
-		t.Errorf("decision maker row %v, want %v", dm, want)
+	pool := block(body, "scores-table-pool")
+	for _, want := range []string{"The performance-weighted pool, scored as if it were an expert on the same 3 questions",
+		"calibration score <strong>" + fv(sc.Pooled.Calibration) + "</strong>", "information score <strong>" + fv(sc.Pooled.Information) + "</strong>",
+		"calibration × information " + fv(sc.Pooled.Combined)} {
+		if !strings.Contains(pool, want) {
+			t.Errorf("the weighted pool's scores lack %q: %s", want, pool)
+		}
 	}
-	if !strings.Contains(body, `<div class="chart-with-table chart-scores">`) || !strings.Contains(body, "<svg") {
-		t.Error("page lacks the scores chart")
+	// The page leads with the weight map, before the tables.
+	mapAt, tableAt := strings.Index(body, `id="weight-map"`), strings.Index(body, `id="scores-table"`)
+	if mapAt < 0 || tableAt < 0 || mapAt > tableAt || strings.Index(body, `id="seeds"`) < tableAt {
+		t.Errorf("order: weight map at %d, scores table at %d, calibration questions at %d", mapAt, tableAt, strings.Index(body, `id="seeds"`))
 	}
 	for _, want := range []string{"Cut-off α = " + fv(sc.Alpha) + ", optimised",
 		"quartile seed share: asked at 25%, 50%, 75%; the scored questions ask at 5%, 50%, 95%",
-		"without calibration question Q2 seed share 1", "without expert Bo Lindh", "Largest of all",
+		"calibration question Q2 seed share 1", "expert Bo Lindh", "How steady the weighted pool is",
 		"Target questions: equal weights beside performance weights", "hidden from the experts"} {
 		if !strings.Contains(body, htmlEscape(want)) {
 			t.Errorf("page lacks %q", want)
@@ -274,17 +290,35 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, c := range loo.Cases {
-		label := "without expert " + c.Name
+		label := "expert " + c.Name
 		if c.LeftOut == elicit.LeaveOutQuestion {
 			n, _ := strconv.Atoi(strings.TrimPrefix(c.Name, "seed"))
-			label = "without calibration question Q" + strconv.Itoa(p.seeds[n].Position) + " " + p.seeds[n].Quantity
+			label = "calibration question Q" + strconv.Itoa(p.seeds[n].Position) + " " + p.seeds[n].Quantity
 		}
-		if got := rowCells(t, body, "robustness", label); len(got) < 2 || got[0] != fv(c.Alpha) || got[1] != fv(c.Shift) {
+		// Cells: α, who carries the weight, the pool on each target
+		// (5% · 50% · 95%), the largest shift.
+		got := rowCells(t, body, "robustness", label)
+		if len(got) != 3+len(p.targets) || got[0] != fv(c.Alpha) || got[len(got)-1] != fv(c.Shift) {
 			t.Errorf("robustness row %q: %v, want α %s shift %s", label, got, fv(c.Alpha), fv(c.Shift))
+			continue
+		}
+		for k := range p.targets {
+			q := c.Percentiles[k]
+			if want := fv(q[0]) + " · " + fv(q[1]) + " · " + fv(q[2]); got[2+k] != want {
+				t.Errorf("robustness row %q, target %d: %q, want %q", label, k, got[2+k], want)
+			}
 		}
 	}
-	if got := rowCells(t, body, "robustness", "Largest of all"); len(got) < 2 || got[1] != fv(loo.MaxShift) {
-		t.Errorf("largest shift %v, want %s", got, fv(loo.MaxShift))
+	if !strings.Contains(block(body, "robustness"), "the largest of all is "+fv(loo.MaxShift)) {
+		t.Errorf("largest shift %s not stated", fv(loo.MaxShift))
+	}
+	// The picture has a panel per target, each with the whole panel's
+	// row and one row per rerun.
+	for k := range p.targets {
+		fig := block(body, "steadiness-"+strconv.Itoa(k+1))
+		if n := strings.Count(fig, `class="steady-row`); n != 1+len(loo.Cases) {
+			t.Errorf("steadiness panel %d has %d rows, want %d", k+1, n, 1+len(loo.Cases))
+		}
 	}
 
 	// A fixed cut-off of 0 weights everyone by calibration × information.
@@ -295,8 +329,8 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 		t.Fatalf("alpha=0: %d", res.StatusCode)
 	}
 	for _, e := range sc0.Experts {
-		if got := rowCells(t, body, "scores-table", e.Expert); got[4] != pct(e.Weight) {
-			t.Errorf("α = 0: %s weight %s, want %s", e.Expert, got[4], pct(e.Weight))
+		if got := rowCells(t, body, "scores-table", e.Expert); got[3] != pct(e.Weight) {
+			t.Errorf("α = 0: %s weight %s, want %s", e.Expert, got[3], pct(e.Weight))
 		}
 	}
 	// Bad cut-offs are refused beside the field.
@@ -464,11 +498,11 @@ func TestReportAndExportCarryTheScores(t *testing.T) {
 	_, body = h.get(workshopPath(p.ws.ID) + "/report")
 	for _, e := range sc.Experts {
 		got := rowCells(t, body, "performance", e.Expert)
-		if len(got) < 5 || got[1] != fv(e.Calibration) || got[4] != pct(e.Weight) {
+		if len(got) < 5 || got[1] != fv(e.Calibration) || got[3] != pct(e.Weight) {
 			t.Errorf("report row %s: %v", e.Expert, got)
 		}
 	}
-	if !strings.Contains(body, "These are the weights in force.") || !strings.Contains(body, "Largest of all") {
+	if !strings.Contains(body, "These are the weights in force.") || !strings.Contains(body, "the largest of all is") || !strings.Contains(body, `id="record-weight-map"`) {
 		t.Error("report lacks the weights-in-force line or the robustness table")
 	}
 	res, js := h.get(workshopPath(p.ws.ID) + "/export.json")
@@ -550,7 +584,7 @@ func TestDemoCalibrationScores(t *testing.T) {
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, `id="scores-table"`) {
 		t.Fatalf("demo calibration page: %d, scores shown %v", res.StatusCode, strings.Contains(body, `id="scores-table"`))
 	}
-	if got := rowCells(t, body, "scores-table", "Ole Brandt"); len(got) != 5 || got[0] != "4" || got[4] != "0%" {
+	if got := rowCells(t, body, "scores-table", "Ole Brandt"); len(got) != 5 || got[0] != "4" || got[3] != "0%" {
 		t.Errorf("Ole Brandt's row %v, want 4 questions answered and weight 0%%", got)
 	}
 	if !strings.Contains(body, "share of returns from capacitor faults: asked at 25%, 50%, 75%") {

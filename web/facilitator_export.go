@@ -63,6 +63,18 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 				s.fail(w, r, err)
 				return
 			}
+			if format == "csv" {
+				// The JSON keeps the calibration answers behind
+				// performance weights; the CSV lists this question's
+				// revisions only.
+				var own []elicit.RecordRevision
+				for _, rv := range rec.Revisions {
+					if rv.QuestionID == q.ID {
+						own = append(own, rv)
+					}
+				}
+				rec.Revisions = own
+			}
 			name += fmt.Sprintf("-question-%d", q.ID)
 		}
 		var buf bytes.Buffer

@@ -180,6 +180,7 @@ type panelView struct {
 	RetireForm  *Form
 	// WithholdForm is a refused withhold or release, shown again.
 	WithholdForm *Form
+	Strength     strengthView // calibration.go: warnings about performance weights
 }
 
 // reasoned are the question's revisions that carry a reason, oldest first.
@@ -256,6 +257,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	}
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
+	v.Strength = panelStrength(d)
 	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
 	m.Caution = true
 	m.Scripts = []string{"/static/live.js"}

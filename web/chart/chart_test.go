@@ -373,51 +373,6 @@ func TestDensityCap(t *testing.T) {
 	}
 }
 
-func TestScoresLogScale(t *testing.T) {
-	rows := []ScoreRow{
-		{Expert: "Expert A", Calibration: 1, Information: 2, Weight: 0.5},
-		{Expert: "Expert B", Calibration: 0.1, Information: 1, Weight: 0.25},
-		{Expert: "Expert C", Calibration: 0.01, Information: 0.5, Weight: 0.25},
-	}
-	ns := parse(t, render(t, Scores(rows)))
-	bars := find(ns, "rect", "bar")
-	if len(bars) != 9 {
-		t.Fatalf("%d bars, want 9", len(bars))
-	}
-	// Calibration on log10 from 0.01 to 1: 1 → full, 0.1 → half, 0.01 → none.
-	full := bars[0].num(t, "width")
-	if got := bars[1].num(t, "width"); math.Abs(got-full/2) > 0.02 {
-		t.Errorf("calibration 0.1 bar = %v px, want half of %v", got, full)
-	}
-	if got := bars[2].num(t, "width"); got != 0 {
-		t.Errorf("calibration 0.01 bar = %v px, want 0 at the axis start", got)
-	}
-	// Information and weight are linear.
-	if a, b := bars[3].num(t, "width"), bars[4].num(t, "width"); math.Abs(a-2*b) > 0.02 {
-		t.Errorf("information bars %v and %v, want 2:1", a, b)
-	}
-	if a, b := bars[6].num(t, "width"), bars[7].num(t, "width"); math.Abs(a-2*b) > 0.02 {
-		t.Errorf("weight bars %v and %v, want 2:1", a, b)
-	}
-	var cells []string
-	for _, td := range find(ns, "td", "") {
-		cells = append(cells, td.Text)
-	}
-	if got := strings.Join(cells, " "); got != "1 2 0.5 0.1 1 0.25 0.01 0.5 0.25" {
-		t.Errorf("table cells = %q", got)
-	}
-}
-
-func TestScoresMissingValues(t *testing.T) {
-	html := render(t, Scores([]ScoreRow{{Expert: "Expert A", Calibration: math.NaN(), Information: math.Inf(1), Weight: 2}}))
-	if strings.Contains(html, "NaN") || strings.Contains(html, "Inf") {
-		t.Errorf("output writes non-finite values")
-	}
-	if n := strings.Count(html, "not available"); n < 3 {
-		t.Errorf("%d 'not available' notes, want 3 bars + table", n)
-	}
-}
-
 func TestPercentileLabelsDoNotOverlap(t *testing.T) {
 	for _, d := range []elicit.ScaledBeta{sbeta(1.5, 6.65, 0, 1), sbeta(0.5, 40, 0, 1), sbeta(0.3, 0.3, 0, 1), sbeta(4.2, 17.9, 0, 1)} {
 		m := newFitModel(fitViewOf(d))

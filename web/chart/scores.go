@@ -3,6 +3,7 @@ package chart
 import (
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 
 	"github.com/a-h/templ"
@@ -10,7 +11,7 @@ import (
 
 // ScoreRow is one expert's result on the calibration questions: the
 // calibration score (a p-value in [0, 1]), the information score (≥ 0)
-// and the weight they earn in the pool (in [0, 1]).
+// and the share of the weight they earn (in [0, 1]).
 type ScoreRow struct {
 	Expert      string
 	Calibration float64
@@ -18,175 +19,337 @@ type ScoreRow struct {
 	Weight      float64
 }
 
-// Layout of the scores chart.
-const (
-	scoreLabelW = 120.0
-	scorePanelW = 190.0
-	scorePanelG = 26.0
-	scoreTop    = 40.0
-	scoreRowH   = 28.0
-	scoreBarH   = 16.0
-	scoreBelow  = 44.0
-)
-
-type barGeom struct {
-	X, Y, W, H   string
-	ValueX       string
-	TextY        string
-	Value        string
-	Missing      bool
-	Fill         string
-	DataValue    string
-	Anchor       string
-	ExpertLabelY string
+// ScoresView is the picture of who earns weight under Cooke's classical
+// model and why: each expert placed by calibration score (across, on a
+// log scale) against information score (up), with the cut-off α drawn,
+// the region below it shaded, and each expert's weight shown by the area
+// of their disc and in their label. Pooled, when set, is the
+// performance-weighted pool scored like an expert (its Weight unused).
+type ScoresView struct {
+	ID     string
+	Rows   []ScoreRow
+	Alpha  float64
+	Pooled *ScoreRow
 }
 
-type scorePanel struct {
-	Title   string
-	Note    string
-	X, W    string
-	Top     string
-	Bottom  string
-	TitleX  string
-	Ticks   []tickGeom
-	TickY   string
-	Bars    []barGeom
-	Class   string
-	LogAxis bool
+// Layout of the weight map, in SVG units. Text is sized so that at the
+// narrowest the figure is drawn (34rem on a phone, see chart.css) it is
+// at least 11 px.
+const (
+	mapLeft   = 78.0
+	mapTop    = 40.0
+	mapWidth  = 530.0
+	mapHeight = 290.0
+	mapRight  = 24.0
+	mapBelow  = 70.0
+	// mapMaxR is the radius of a disc holding all the weight; area is
+	// proportional to weight, so a disc of half the weight has radius
+	// mapMaxR/√2.
+	mapMaxR = 19.0
+	mapMinR = 5.0
+	// Labels are placed with this width per character and line height:
+	// the widest the label font is drawn (15px), so they cannot overlap.
+	mapCharW = 8.6
+	mapLineH = 19.0
+	// mapLowest is the smallest decade drawn; lower scores sit on the
+	// left edge and their labels say so.
+	mapLowest = -12.0
+)
+
+type mapPoint struct {
+	X, Y, R              string
+	Weighted             bool
+	LabelX, LabelY       string
+	Anchor               string
+	Label                string
+	Leader               bool
+	LeadX1, LeadY1       string
+	LeadX2, LeadY2       string
+	Calibration, Weight  string // data values, for tests and assistive tools
+	Information, Clipped string
+}
+
+type mapCut struct {
+	X, Top, Bottom, Left string
+	ShadeW, ShadeH       string
+	Shade                bool
+	Label                string
+	LabelX, LabelY       string
+	Anchor               string
+	ShadeLabel           string
+	ShadeLabelX          string
+	ShadeLabelY          string
+	Value                string
+}
+
+type mapDiamond struct {
+	Path, LabelX, LabelY, Anchor string
+	Label                        string
 }
 
 type scoresModel struct {
-	ViewBox string
-	Desc    string
-	Labels  []barGeom // expert labels, one per row
-	Panels  []scorePanel
-	Rows    []scoreTableRow
+	ID      string
 	Empty   bool
+	ViewBox string
+	Title   string
+	Desc    string
+	Axis    axesGeom
+	XTicks  []tickGeom
+	XLabelY string
+	XTitle  string
+	XTitleX string
+	XTitleY string
+	Cut     mapCut
+	Points  []mapPoint
+	Pool    *mapDiamond
 }
 
-type scoreTableRow struct {
-	Expert, Calibration, Information, Weight string
+// Scores draws the weight map with its caption.
+func Scores(v ScoresView) templ.Component {
+	return scoresFigure(newScoresModel(v))
 }
 
-// Scores draws each expert's calibration score (on a log scale, since
-// scores span orders of magnitude), information score and weight as bars
-// side by side, with a table of the same numbers.
-func Scores(rows []ScoreRow) templ.Component {
-	return scoresFigure(newScoresModel(rows))
-}
+func finiteIn(v, lo, hi float64) bool { return isFinite(v) && v >= lo && v <= hi }
 
-func newScoresModel(rows []ScoreRow) scoresModel {
-	var m scoresModel
+func newScoresModel(v ScoresView) scoresModel {
+	m := scoresModel{ID: v.ID}
+	if m.ID == "" {
+		m.ID = "weight-map"
+	}
+	var rows []ScoreRow
+	for _, r := range v.Rows {
+		if finiteIn(r.Calibration, 0, 1) && isFinite(r.Information) && r.Information >= 0 && finiteIn(r.Weight, 0, 1) {
+			rows = append(rows, r)
+		}
+	}
 	if len(rows) == 0 {
 		m.Empty = true
 		return m
 	}
-	bottom := scoreTop + float64(len(rows))*scoreRowH
-	width := scoreLabelW + 3*scorePanelW + 2*scorePanelG + 20
-	m.ViewBox = "0 0 " + coord(width) + " " + coord(bottom+scoreBelow)
-	for i, r := range rows {
-		y := scoreTop + float64(i)*scoreRowH + scoreRowH/2
-		m.Labels = append(m.Labels, barGeom{ExpertLabelY: coord(y + 4.5), Value: r.Expert})
-		m.Rows = append(m.Rows, scoreTableRow{
-			Expert: r.Expert, Calibration: formatScore(r.Calibration),
-			Information: formatSig(r.Information, 3), Weight: formatSig(r.Weight, 3),
-		})
+	pooled := v.Pooled
+	if pooled != nil && !(finiteIn(pooled.Calibration, 0, 1) && isFinite(pooled.Information) && pooled.Information >= 0) {
+		pooled = nil
+	}
+	alpha := v.Alpha
+	if !finiteIn(alpha, 0, 1) {
+		alpha = 0
 	}
 
-	// Calibration: log axis from the decade below the smallest positive
-	// score (at most 1e-12) to 1.
-	minPos := 1.0
-	for _, r := range rows {
-		if isFinite(r.Calibration) && r.Calibration > 0 && r.Calibration < minPos {
-			minPos = r.Calibration
+	// Across: log10 of the calibration score, from the decade at or below
+	// the smallest positive score shown (never above 0.1, never below
+	// 1e-12) to 1, with a little room on both sides for the discs.
+	lo := -1.0
+	consider := func(c float64) {
+		if c > 0 {
+			lo = math.Min(lo, math.Floor(math.Log10(c)))
 		}
 	}
-	lo := math.Max(-12, math.Floor(math.Log10(minPos)))
-	if lo > -1 {
-		lo = -1
+	for _, r := range rows {
+		consider(r.Calibration)
 	}
-	cal := frame{Left: scoreLabelW, Top: scoreTop, Width: scorePanelW, Height: bottom - scoreTop, X0: lo, X1: 0, Y0: 0, Y1: 1}
-	var calTicks []tick
-	stride := math.Max(1, math.Ceil(-lo/4))
+	if pooled != nil {
+		consider(pooled.Calibration)
+	}
+	consider(alpha)
+	lo = math.Max(lo, mapLowest)
+	pad := 0.06 * -lo
+	// Up: information from 0 to a round number above the largest score.
+	top := 0.0
+	for _, r := range rows {
+		top = math.Max(top, r.Information)
+	}
+	if pooled != nil {
+		top = math.Max(top, pooled.Information)
+	}
+	if !(top > 0) {
+		top = 1
+	}
+	yTicks := ticks(0, top*1.15, 4)
+	yTop := top * 1.15
+	if n := len(yTicks); n > 0 && yTicks[n-1].Value > yTop {
+		yTop = yTicks[n-1].Value
+	}
+	f := frame{Left: mapLeft, Top: mapTop, Width: mapWidth, Height: mapHeight, X0: lo - pad, X1: pad, Y0: 0, Y1: yTop}
+	xOf := func(c float64) (float64, bool) {
+		if c <= 0 || math.Log10(c) < lo {
+			return f.px(lo), true
+		}
+		return f.px(math.Log10(c)), false
+	}
+
+	m.ViewBox = "0 0 " + coord(mapLeft+mapWidth+mapRight) + " " + coord(mapTop+mapHeight+mapBelow)
+	m.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()),
+		Class: "plot-weight-map", YTitle: "information score ↑"}
+	for _, t := range yTicks {
+		m.Axis.YTicks = append(m.Axis.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: t.Label, Value: fmt.Sprint(t.Value)})
+	}
+	tx, ty := mapLeft-52, f.Top+f.Height/2
+	m.Axis.YTitleX, m.Axis.YTitleY = coord(tx), coord(ty)
+	m.Axis.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
+	stride := math.Max(1, math.Ceil(-lo/5))
 	for e := 0.0; e >= lo; e -= stride {
-		calTicks = append(calTicks, tick{Value: e, Label: decadeLabel(e)})
+		m.XTicks = append(m.XTicks, tickGeom{Pos: coord(f.px(e)), Label: decadeLabel(e), Value: fmt.Sprint(math.Pow(10, e))})
 	}
-	m.Panels = append(m.Panels, newScorePanel("calibration (log scale)", "calibration", cal, calTicks, rows,
-		func(r ScoreRow) (float64, bool) {
-			if !isFinite(r.Calibration) || r.Calibration < 0 || r.Calibration > 1 {
-				return 0, false
-			}
-			if r.Calibration == 0 {
-				return lo, true // an empty bar; the label reads 0
-			}
-			return math.Max(lo, math.Log10(r.Calibration)), true
-		}, func(r ScoreRow) string { return formatScore(r.Calibration) }, "#0072B2"))
+	m.XLabelY = coord(f.bottom() + 20)
+	m.XTitle, m.XTitleX, m.XTitleY = "calibration score (log scale) → better calibrated", coord(f.Left+f.Width/2), coord(f.bottom()+50)
 
-	maxInfo := 0.0
-	for _, r := range rows {
-		if isFinite(r.Information) && r.Information > maxInfo {
-			maxInfo = r.Information
+	// The cut-off: experts left of it get weight 0.
+	cx, _ := xOf(alpha)
+	m.Cut = mapCut{X: coord(cx), Top: coord(f.Top), Bottom: coord(f.bottom()), Left: coord(f.Left), ShadeW: coord(cx - f.Left), ShadeH: coord(f.Height),
+		Shade: alpha > 0 && cx > f.Left, Value: fmt.Sprint(alpha), LabelY: coord(f.Top - 10)}
+	if alpha > 0 {
+		m.Cut.Label = "cut-off α = " + formatSig(alpha, 3)
+	} else {
+		m.Cut.Label = "cut-off α = 0: no expert is left out"
+	}
+	m.Cut.LabelX, m.Cut.Anchor = coord(cx), "middle"
+	half := float64(len(m.Cut.Label)) * mapCharW / 2
+	switch {
+	case cx-half < 4:
+		m.Cut.LabelX, m.Cut.Anchor = coord(math.Max(cx, 4)), "start"
+	case cx+half > mapLeft+mapWidth+mapRight-4:
+		m.Cut.LabelX, m.Cut.Anchor = coord(cx), "end"
+	}
+	const shadeText = "weight 0"
+	if m.Cut.Shade && cx-f.Left > float64(len(shadeText))*mapCharW+12 {
+		m.Cut.ShadeLabel, m.Cut.ShadeLabelX, m.Cut.ShadeLabelY = shadeText, coord(f.Left+8), coord(f.bottom()-10)
+	}
+
+	// Discs, largest first so small ones stay visible on top.
+	order := make([]int, len(rows))
+	for i := range order {
+		order[i] = i
+	}
+	sort.SliceStable(order, func(a, b int) bool { return rows[order[a]].Weight > rows[order[b]].Weight })
+	// The cut-off's label and the shaded region's are placed first.
+	cutW := float64(len([]rune(m.Cut.Label))) * mapCharW
+	cutBox := labelBox{x0: cx - cutW/2, x1: cx + cutW/2, y0: f.Top - 10 - mapLineH + 4, y1: f.Top - 6}
+	switch m.Cut.Anchor {
+	case "start":
+		cutBox.x0, cutBox.x1 = math.Max(cx, 4), math.Max(cx, 4)+cutW
+	case "end":
+		cutBox.x0, cutBox.x1 = cx-cutW, cx
+	}
+	placed := []labelBox{cutBox}
+	if m.Cut.ShadeLabel != "" {
+		placed = append(placed, labelBox{x0: f.Left + 8, x1: f.Left + 8 + float64(len(shadeText))*mapCharW, y0: f.bottom() - 10 - mapLineH + 4, y1: f.bottom()})
+	}
+	if pooled != nil {
+		x, _ := xOf(pooled.Calibration)
+		y := f.py(pooled.Information)
+		const s = 9.0
+		d := &mapDiamond{
+			Path:  "M" + coord(x) + "," + coord(y-s) + " L" + coord(x+s) + "," + coord(y) + " L" + coord(x) + "," + coord(y+s) + " L" + coord(x-s) + "," + coord(y) + " Z",
+			Label: "weighted pool",
 		}
+		b := placeLabel(d.Label, x, y, s, f, placed)
+		placed = append(placed, b)
+		d.LabelX, d.LabelY, d.Anchor = coord(b.textX), coord(b.baseline), b.anchor
+		m.Pool = d
 	}
-	if !(maxInfo > 0) {
-		maxInfo = 1
+	for _, i := range order {
+		r := rows[i]
+		x, clipped := xOf(r.Calibration)
+		y := f.py(r.Information)
+		rad := mapMinR
+		if r.Weight > 0 {
+			rad = math.Max(mapMinR+1, mapMaxR*math.Sqrt(r.Weight))
+		}
+		label := r.Expert + " · " + FormatPercent(r.Weight)
+		if clipped {
+			label += " (calibration " + formatScore(r.Calibration) + ")"
+		}
+		b := placeLabel(label, x, y, rad, f, placed)
+		placed = append(placed, b)
+		p := mapPoint{X: coord(x), Y: coord(y), R: coord(rad), Weighted: r.Weight > 0, Label: label,
+			LabelX: coord(b.textX), LabelY: coord(b.baseline), Anchor: b.anchor,
+			Calibration: fmt.Sprint(r.Calibration), Information: fmt.Sprint(r.Information), Weight: fmt.Sprint(r.Weight)}
+		if clipped {
+			p.Clipped = "true"
+		}
+		if b.moved {
+			p.Leader = true
+			p.LeadX1, p.LeadY1 = coord(b.leadX), coord(y)
+			p.LeadX2, p.LeadY2 = coord(b.leadX2), coord(b.baseline-5)
+		}
+		m.Points = append(m.Points, p)
 	}
-	infoTicks := ticks(0, maxInfo*1.1, 3)
-	infoTop := maxInfo * 1.1
-	if n := len(infoTicks); n > 0 && infoTicks[n-1].Value > infoTop {
-		infoTop = infoTicks[n-1].Value
-	}
-	info := frame{Left: scoreLabelW + scorePanelW + scorePanelG, Top: scoreTop, Width: scorePanelW, Height: bottom - scoreTop, X0: 0, X1: infoTop, Y0: 0, Y1: 1}
-	m.Panels = append(m.Panels, newScorePanel("information", "information", info, infoTicks, rows,
-		func(r ScoreRow) (float64, bool) {
-			return r.Information, isFinite(r.Information) && r.Information >= 0
-		}, func(r ScoreRow) string { return formatSig(r.Information, 3) }, "#E69F00"))
-
-	wt := frame{Left: scoreLabelW + 2*(scorePanelW+scorePanelG), Top: scoreTop, Width: scorePanelW, Height: bottom - scoreTop, X0: 0, X1: 1, Y0: 0, Y1: 1}
-	m.Panels = append(m.Panels, newScorePanel("weight", "weight", wt, ticks(0, 1, 4), rows,
-		func(r ScoreRow) (float64, bool) {
-			return r.Weight, isFinite(r.Weight) && r.Weight >= 0 && r.Weight <= 1
-		}, func(r ScoreRow) string { return formatSig(r.Weight, 3) }, "#009E73"))
 
 	var words []string
-	for _, r := range m.Rows {
-		words = append(words, fmt.Sprintf("%s: calibration %s, information %s, weight %s", r.Expert, r.Calibration, r.Information, r.Weight))
+	for _, r := range rows {
+		words = append(words, fmt.Sprintf("%s: calibration %s, information %s, weight %s", r.Expert,
+			formatScore(r.Calibration), formatSig(r.Information, 3), FormatPercent(r.Weight)))
 	}
-	m.Desc = "Calibration scores (log scale), information scores and weights of each expert. " + strings.Join(words, "; ") + "."
+	m.Title = "Who earns weight: calibration against information"
+	cut := fmt.Sprintf("Experts left of the cut-off α = %s get weight 0", formatSig(alpha, 3))
+	if alpha == 0 {
+		cut = "The cut-off is 0, so no expert is left out"
+	}
+	m.Desc = "Each disc is an expert: further right means better calibrated (the true values fell where their quantiles said they would), " +
+		"higher means more informative (narrower ranges than the panel's). " + cut + "; the others share the weight in proportion to " +
+		"calibration × information, shown by the disc's area. " + strings.Join(words, "; ") + "."
+	if pooled != nil {
+		m.Desc += fmt.Sprintf(" The diamond is the performance-weighted pool scored as if it were an expert: calibration %s, information %s.",
+			formatScore(pooled.Calibration), formatSig(pooled.Information, 3))
+	}
 	return m
 }
 
-func newScorePanel(title, class string, f frame, ts []tick, rows []ScoreRow,
-	value func(ScoreRow) (float64, bool), label func(ScoreRow) string, fill string) scorePanel {
-	p := scorePanel{
-		Title: title, Class: class, X: coord(f.Left), W: coord(f.Width),
-		Top: coord(f.Top), Bottom: coord(f.bottom()), TitleX: coord(f.Left),
-		TickY: coord(f.bottom() + 16),
-	}
-	for _, t := range ts {
-		p.Ticks = append(p.Ticks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: fmt.Sprint(t.Value)})
-	}
-	for i, r := range rows {
-		y := f.Top + float64(i)*scoreRowH + (scoreRowH-scoreBarH)/2
-		b := barGeom{Y: coord(y), H: coord(scoreBarH), TextY: coord(y + scoreBarH - 3.5), Fill: fill, X: coord(f.Left)}
-		v, ok := value(r)
-		if !ok {
-			b.Missing, b.W, b.Value = true, "0", "not available"
-			b.ValueX, b.Anchor = coord(f.Left+4), "start"
-			p.Bars = append(p.Bars, b)
-			continue
-		}
-		w := math.Max(0, math.Min(f.Width, f.px(v)-f.Left))
-		b.W, b.Value, b.DataValue = coord(w), label(r), fmt.Sprint(v)
-		// Put the number inside long bars and after short ones.
-		if w > f.Width*0.6 {
-			b.ValueX, b.Anchor = coord(f.Left+w-4), "end"
+// labelBox is a placed label: its box for overlap tests, where its text
+// starts and which way it runs, and a leader line when it had to move
+// away from its disc.
+type labelBox struct {
+	x0, x1, y0, y1  float64
+	textX, baseline float64
+	anchor          string
+	moved           bool
+	leadX, leadX2   float64
+}
+
+func (a labelBox) overlaps(b labelBox) bool {
+	return a.x0 < b.x1 && b.x0 < a.x1 && a.y0 < b.y1 && b.y0 < a.y1
+}
+
+// placeLabel puts a label beside the disc at (x, y) of radius r, to the
+// right when it fits inside the picture and to the left otherwise, moved
+// down (or up) in steps until it overlaps no label already placed.
+func placeLabel(text string, x, y, r float64, f frame, placed []labelBox) labelBox {
+	w := float64(len([]rune(text))) * mapCharW
+	edge := mapLeft + mapWidth + mapRight - 2
+	right := x+r+6+w <= edge || (x-r-6-w < 2 && edge-x > x)
+	mk := func(dy float64) labelBox {
+		b := labelBox{y0: y - mapLineH/2 + dy, y1: y + mapLineH/2 + dy, baseline: y + 5 + dy}
+		if right {
+			b.textX, b.anchor = x+r+6, "start"
+			b.x0, b.x1 = b.textX, b.textX+w
+			b.leadX, b.leadX2 = x+r, b.textX-2
 		} else {
-			b.ValueX, b.Anchor = coord(f.Left+w+4), "start"
+			b.textX, b.anchor = x-r-6, "end"
+			b.x0, b.x1 = b.textX-w, b.textX
+			b.leadX, b.leadX2 = x-r, b.textX+2
 		}
-		p.Bars = append(p.Bars, b)
+		return b
 	}
-	return p
+	free := func(b labelBox) bool {
+		if b.y0 < f.Top-mapLineH || b.y1 > f.bottom() {
+			return false
+		}
+		for _, p := range placed {
+			if b.overlaps(p) {
+				return false
+			}
+		}
+		return true
+	}
+	for step := 0.0; step < 40; step++ {
+		for _, dy := range []float64{step * 4, -step * 4} {
+			if b := mk(dy); free(b) {
+				b.moved = math.Abs(dy) > r
+				return b
+			}
+		}
+	}
+	return mk(0)
 }
 
 // decadeLabel writes 10^e for a whole e ≤ 0: 1, 0.1, 0.01, 0.001, then 1e-4.
@@ -199,10 +362,3 @@ func decadeLabel(e float64) string {
 
 // formatScore writes a calibration score, which may be tiny.
 func formatScore(v float64) string { return formatSig(v, 3) }
-
-func barTextClass(b barGeom) string {
-	if b.Anchor == "end" && !b.Missing {
-		return "bar-label bar-label-inside"
-	}
-	return "bar-label"
-}

@@ -1,0 +1,157 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"strconv"
+	"testing"
+
+	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web"
+)
+
+// minSVGText is the smallest a picture's text may be drawn, in CSS pixels.
+const minSVGText = 11
+
+// svgTextCheck measures, in the page, every text of the pictures inside
+// css: its font size times the scale at which its SVG is drawn. It
+// returns the smallest, and how many texts it measured.
+const svgTextCheck = `(() => {
+	let smallest = 1e9, n = 0, where = "";
+	for (const svg of document.querySelectorAll(%q)) {
+		const vb = svg.viewBox.baseVal, w = svg.getBoundingClientRect().width;
+		if (!vb || !vb.width || !w) continue;
+		const scale = w / vb.width;
+		for (const t of svg.querySelectorAll("text")) {
+			const px = parseFloat(getComputedStyle(t).fontSize) * scale;
+			n++;
+			if (px < smallest) { smallest = px; where = t.textContent; }
+		}
+	}
+	return {smallest, n, where};
+})()`
+
+type textSize struct {
+	Smallest float64 `json:"smallest"`
+	N        int     `json:"n"`
+	Where    string  `json:"where"`
+}
+
+// checkLayout fails when the page scrolls sideways or a picture's text
+// in css is drawn smaller than minSVGText.
+func checkLayout(t *testing.T, p *person, where, css string, width int) {
+	t.Helper()
+	if sw := eval[int](p, "page width", `document.documentElement.scrollWidth`); sw > width {
+		t.Errorf("%s at %d px: the page scrolls sideways (%d px wide)", where, width, sw)
+	}
+	ts := eval[textSize](p, "measure picture text", fmt.Sprintf(svgTextCheck, css))
+	if ts.N == 0 {
+		t.Errorf("%s at %d px: no picture text found in %s", where, width, css)
+	} else {
+		t.Logf("%s at %d px: smallest of %d picture texts drawn at %.1f px (%q)", where, width, ts.N, ts.Smallest, ts.Where)
+	}
+	if ts.N > 0 && ts.Smallest < minSVGText-0.05 {
+		t.Errorf("%s at %d px: picture text %q is drawn at %.1f px, below %d px", where, width, ts.Where, ts.Smallest, minSVGText)
+	}
+}
+
+// TestCalibrationScreenInBrowser opens the invented demo's calibration
+// page as a facilitator at a projector (1366 px) and on a phone (390 px):
+// it leads with the weight map, says how weak the calibration is, draws
+// the steadiness of the pool, never scrolls the page sideways and keeps
+// the pictures' text readable. The facilitator then reveals the true
+// values and applies performance weights in the browser; the question
+// panel and the printable report say how weak they are, and the report
+// shows the scores behind them.
+func TestCalibrationScreenInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	b := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := b.person("facilitator")
+	signIn(t, site, fac)
+	wss, err := site.DB.Workshops(ctx)
+	if err != nil || len(wss) != 1 {
+		t.Fatalf("demo workshops %v, %v", wss, err)
+	}
+	ws := wss[0]
+	base := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
+	page := base + "/calibration"
+	pictures := ".chart-weight-map .chart-svg, .chart-steadiness .chart-svg"
+
+	for _, width := range []int{1366, 390} {
+		fac.viewport(int64(width), 900, width < 500)
+		if st := fac.open(page); st != http.StatusOK {
+			t.Fatalf("calibration page: %d", st)
+		}
+		fac.sees("calibration page", "Who earns weight", "How far these scores can carry weights:",
+			"Only 4 calibration questions were scored", "Ines Varga has 100% of the weight",
+			"(Ines Varga 4, Tomas Lindqvist 3, Priya Raman 3, Ole Brandt 4)",
+			"How steady the weighted pool is", "The performance-weighted pool, scored as if it were an expert")
+		notShown(t, fac, "calibration page", "decision maker")
+		// The weight map comes before the numbers.
+		if !eval[bool](fac, "order", `(() => { const m = document.getElementById("weight-map"), t = document.getElementById("scores-table");
+			return !!m && !!t && !!(m.compareDocumentPosition(t) & Node.DOCUMENT_POSITION_FOLLOWING); })()`) {
+			t.Errorf("at %d px the weight map does not come before the scores table", width)
+		}
+		if n := fac.count("#weight-map circle.map-expert"); n != 4 {
+			t.Errorf("at %d px the weight map draws %d experts, want 4", width, n)
+		}
+		checkLayout(t, fac, "calibration page", pictures, width)
+		// The cut-off, where the weight is decided, is on screen without
+		// scrolling the picture.
+		if x := eval[float64](fac, "cut-off position", `document.querySelector("#weight-map .map-cut").getBoundingClientRect().x`); x < 0 || x > float64(width) {
+			t.Errorf("at %d px the cut-off is drawn off screen, at x = %.0f", width, x)
+		}
+		shots.take(fac, "calibration-"+strconv.Itoa(width))
+	}
+
+	// Reveal every true value and apply performance weights through the
+	// page's form.
+	qs, _ := site.DB.Questions(ctx, ws.ID)
+	var target elicit.Question
+	for _, q := range qs {
+		if q.Calibration {
+			if err := site.DB.SetTrueValue(ctx, q.ID, *q.TrueValue, true, "answers in (invented)"); err != nil {
+				t.Fatal(err)
+			}
+		} else if target.ID == 0 {
+			target = q
+		}
+	}
+	fac.viewport(1366, 900, false)
+	fac.open(page)
+	form := `#weights form`
+	fac.do("choose performance weights", chromedp.Click(chromedp.CSS(form+` input[name=scheme][value=performance]`)))
+	fac.fill(form, "reason", "scored on the invented calibration questions")
+	if st := fac.load("set performance weights", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("set weights: %d", st)
+	}
+	fac.sees("weights in force", "They are the performance weights shown above.", "Stored with them, so the record can reproduce them")
+	w, err := site.DB.Weights(ctx, ws.ID)
+	if err != nil || w.Scheme != elicit.WeightsPerformance || w.Basis == nil || len(w.Basis.CalibrationAnswers) != 14 {
+		t.Fatalf("stored weights %+v, %v", w, err)
+	}
+
+	for _, width := range []int{1366, 390} {
+		fac.viewport(int64(width), 900, width < 500)
+		fac.open(base + "/q/" + strconv.FormatInt(target.ID, 10))
+		fac.sees("question panel", "The performance weights in force rest on weak ground:", "Only 4 calibration questions were scored")
+		if sw := eval[int](fac, "page width", `document.documentElement.scrollWidth`); sw > width {
+			t.Errorf("panel at %d px scrolls sideways (%d px)", width, sw)
+		}
+		shots.take(fac, "panel-"+strconv.Itoa(width))
+		fac.open(base + "/report")
+		fac.sees("report", "Calibration scores and performance weights", "How far these scores can carry weights:",
+			"Pool weights over time", "scored on the invented calibration questions", "Weak ground: fewer than 10 calibration questions")
+		notShown(t, fac, "report", "No scores in this record")
+		checkLayout(t, fac, "report", "#performance .chart-svg", width)
+		shots.take(fac, "report-"+strconv.Itoa(width))
+	}
+}

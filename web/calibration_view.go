@@ -1,0 +1,246 @@
+package web
+
+import (
+	"math"
+	"sort"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// What the calibration page and the report's performance section show,
+// prepared from elicit's results: the weight map and its table, the
+// steadiness pictures and their table.
+
+func seedPath(ws, q int64) string {
+	return calibrationPath(ws) + "/q/" + strconv.FormatInt(q, 10)
+}
+
+func seedAnchor(q int64) string { return "seed-" + strconv.FormatInt(q, 10) }
+
+func seedInputID(q int64, name string) string {
+	return "f-q" + strconv.FormatInt(q, 10) + "-" + name
+}
+
+func namesOrNobody(names []string) string {
+	if len(names) == 0 {
+		return "nobody"
+	}
+	return strings.Join(names, ", ")
+}
+
+// alphaSentence says what the cut-off is and how it was chosen.
+func alphaSentence(alpha float64, rule string) string {
+	if rule == elicit.AlphaFixed {
+		return "Cut-off α = " + fv(alpha) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
+	}
+	return "Cut-off α = " + fv(alpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
+		"scored as if it were an expert, does best on these questions. Experts whose calibration score is below it get weight 0."
+}
+
+// recordLabels are "Q1 quantity" labels of a record's questions by ID.
+func recordLabels(r elicit.Record) map[int64]string {
+	m := map[int64]string{}
+	for _, q := range r.Questions {
+		m[q.ID] = "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+	}
+	return m
+}
+
+func recordQuestions(r elicit.Record) []elicit.Question {
+	qs := make([]elicit.Question, len(r.Questions))
+	for i, q := range r.Questions {
+		qs[i] = q.Question
+	}
+	return qs
+}
+
+func expertNames(es []elicit.Expert) map[int64]string {
+	m := make(map[int64]string, len(es))
+	for _, e := range es {
+		m[e.ID] = e.Name
+	}
+	return m
+}
+
+// scoreLine is one expert's row of the scores table, with why their
+// weight is what it is.
+type scoreLine struct {
+	elicit.PerformanceExpert
+	Why string
+}
+
+// scoreLines explains each expert's weight under the cut-off alpha: the
+// product calibration × information that earns it, or the reason it is 0.
+func scoreLines(experts []elicit.PerformanceExpert, alpha float64) []scoreLine {
+	total := 0.0
+	for _, e := range experts {
+		if e.Weight > 0 {
+			total += e.Combined
+		}
+	}
+	out := make([]scoreLine, len(experts))
+	for i, e := range experts {
+		l := scoreLine{PerformanceExpert: e}
+		switch {
+		case e.Answered == 0:
+			l.Why = "answered no scored calibration question, so has no score and weight 0"
+		case e.Weight > 0:
+			l.Why = "earns " + fv(e.Calibration) + " × " + fv(e.Information) + " = " + fv(e.Combined) +
+				" of the " + fv(total) + " earned by the experts at or above the cut-off"
+		case e.Calibration < alpha:
+			l.Why = "calibration score " + fv(e.Calibration) + " is below the cut-off " + fv(alpha) + ", so weight 0"
+		default:
+			l.Why = "calibration × information is 0, so weight 0"
+		}
+		out[i] = l
+	}
+	return out
+}
+
+// scoresPicture is the weight map of the experts who have scores.
+func scoresPicture(id string, experts []elicit.PerformanceExpert, pooled elicit.PooledScore, alpha float64) chart.ScoresView {
+	v := chart.ScoresView{ID: id, Alpha: alpha}
+	for _, e := range experts {
+		if e.Answered > 0 {
+			v.Rows = append(v.Rows, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, Information: e.Information, Weight: e.Weight})
+		}
+	}
+	if pooled.N > 0 {
+		v.Pooled = &chart.ScoreRow{Expert: "performance-weighted pool", Calibration: pooled.Calibration, Information: pooled.Information}
+	}
+	return v
+}
+
+// rerunLine is one rerun of the robustness analysis in the table behind
+// the steadiness pictures.
+type rerunLine struct {
+	Label    string // what was left out, in words
+	Alpha    string
+	WeightTo string   // who carries the weight in the rerun
+	Pools    []string // per watched question: "5% · 50% · 95%"
+	Shift    string
+	Error    string
+}
+
+// steadiness is the robustness analysis as the page shows it: a picture
+// per watched question and the table behind them.
+type steadiness struct {
+	Picture chart.SteadinessView
+	Watched []string // labels of the watched questions
+	Full    []string // the whole panel's pools, as in rerunLine.Pools
+	Rows    []rerunLine
+	Largest string
+	Of      string // what the watched questions are, in words
+}
+
+func poolText(p elicit.Percentiles) string {
+	return fv(p.P05) + " · " + fv(p.P50) + " · " + fv(p.P95)
+}
+
+// newSteadiness prepares rb for the page; questions give the labels and
+// bounds of the watched questions, names the experts'.
+func newSteadiness(id string, rb *elicit.Robustness, questions []elicit.Question, names map[int64]string) steadiness {
+	byID := map[int64]elicit.Question{}
+	for _, q := range questions {
+		byID[q.ID] = q
+	}
+	label := func(id int64) string {
+		if q, ok := byID[id]; ok {
+			return "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+		}
+		return "question " + strconv.FormatInt(id, 10)
+	}
+	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fv(rb.Largest)}
+	full := map[int64]elicit.Percentiles{}
+	for _, p := range rb.Full {
+		full[p.QuestionID] = p.Percentiles
+	}
+	calib := true
+	for _, t := range rb.Targets {
+		calib = calib && byID[t].Calibration
+		s.Watched = append(s.Watched, label(t))
+		if p, ok := full[t]; ok {
+			s.Full = append(s.Full, poolText(p))
+		} else {
+			s.Full = append(s.Full, "no pool")
+		}
+	}
+	s.Of = "the target questions"
+	if calib && len(rb.Targets) > 0 {
+		s.Of = "the calibration questions themselves (the workshop has no target question with answers)"
+	}
+	for _, t := range rb.Targets {
+		q := byID[t]
+		ct := chart.SteadinessTarget{Title: label(t), Lower: q.Lower, Upper: q.Upper}
+		if p, ok := full[t]; ok {
+			ct.Full = [3]float64{p.P05, p.P50, p.P95}
+		} else {
+			ct.Full = [3]float64{math.NaN(), math.NaN(), math.NaN()}
+		}
+		s.Picture.Targets = append(s.Picture.Targets, ct)
+	}
+	for k, r := range rb.Rows {
+		l := rerunLine{Error: r.Error, Alpha: fv(r.Alpha), Shift: fv(r.Shift)}
+		// A rule under the whole panel's row, and between the reruns
+		// without a question and those without an expert.
+		newGroup := k == 0 || rb.Rows[k-1].LeftOut != r.LeftOut
+		short := "without " + r.Label
+		if r.LeftOut == elicit.LeaveOutQuestion {
+			l.Label = "calibration question " + r.Label
+			if q, ok := byID[r.ID]; ok {
+				short = "without Q" + strconv.Itoa(q.Position)
+			}
+		} else {
+			l.Label = "expert " + r.Label
+		}
+		l.WeightTo = weightGoesTo(r.Weights, names)
+		pools := map[int64]elicit.Percentiles{}
+		for _, p := range r.Pools {
+			pools[p.QuestionID] = p.Percentiles
+		}
+		for i, t := range rb.Targets {
+			row := chart.SteadinessRow{Label: short, NewGroup: newGroup}
+			switch p, ok := pools[t]; {
+			case r.Error != "":
+				row.Note = "cannot be rerun"
+				l.Pools = append(l.Pools, "—")
+			case !ok:
+				row.Note = "no expert with weight left"
+				l.Pools = append(l.Pools, "no expert with weight left")
+			default:
+				row.Pool = &[3]float64{p.P05, p.P50, p.P95}
+				if i < len(r.Shifts) {
+					row.Shift = r.Shifts[i]
+				}
+				l.Pools = append(l.Pools, poolText(p))
+			}
+			s.Picture.Targets[i].Rows = append(s.Picture.Targets[i].Rows, row)
+		}
+		s.Rows = append(s.Rows, l)
+	}
+	return s
+}
+
+// weightGoesTo names the experts with weight in a rerun, largest first.
+func weightGoesTo(ws []elicit.ExpertWeight, names map[int64]string) string {
+	ws = append([]elicit.ExpertWeight(nil), ws...)
+	sort.SliceStable(ws, func(i, j int) bool { return ws[i].Weight > ws[j].Weight })
+	var parts []string
+	for _, w := range ws {
+		if w.Weight <= 0 {
+			continue
+		}
+		n, ok := names[w.ExpertID]
+		if !ok {
+			n = "expert " + strconv.FormatInt(w.ExpertID, 10)
+		}
+		parts = append(parts, n+" "+pct(w.Weight))
+	}
+	if len(parts) == 0 {
+		return "nobody"
+	}
+	return strings.Join(parts, ", ")
+}

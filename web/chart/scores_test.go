@@ -1,0 +1,181 @@
+package chart
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// TestWeightMapPlacesExperts checks the weight map's geometry against its
+// own tick labels: calibration across on a log scale, information up on
+// a linear one, disc area in proportion to weight, the cut-off at α with
+// the region below it shaded.
+func TestWeightMapPlacesExperts(t *testing.T) {
+	v := ScoresView{Alpha: 0.1, Rows: []ScoreRow{
+		{Expert: "Expert A", Calibration: 1, Information: 2, Weight: 0.5},
+		{Expert: "Expert B", Calibration: 0.1, Information: 1, Weight: 0.125},
+		{Expert: "Expert C", Calibration: 0.01, Information: 0.5, Weight: 0},
+	}, Pooled: &ScoreRow{Calibration: 0.5, Information: 1.5}}
+	html := render(t, Scores(v))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	xt := find(ns, "line", "grid-x")
+	x := axisMap(t, xt, "x1", func(s string) float64 { return math.Log10(parseNumber(s)) })
+	y := axisMap(t, find(ns, "line", "grid-y"), "y1", parseNumber)
+	discs := find(ns, "circle", "map-expert")
+	if len(discs) != 3 {
+		t.Fatalf("%d discs, want 3", len(discs))
+	}
+	radius := map[string]float64{}
+	for i, d := range discs {
+		cal, info := parseNumber(d.Attr["data-calibration"]), parseNumber(d.Attr["data-information"])
+		if got, want := d.num(t, "cx"), x(math.Log10(cal)); math.Abs(got-want) > 0.02 {
+			t.Errorf("disc %d: cx %v, want %v for calibration %v", i, got, want, cal)
+		}
+		if got, want := d.num(t, "cy"), y(info); math.Abs(got-want) > 0.02 {
+			t.Errorf("disc %d: cy %v, want %v for information %v", i, got, want, info)
+		}
+		radius[d.Attr["data-weight"]] = d.num(t, "r")
+		if w := parseNumber(d.Attr["data-weight"]); (w > 0) != d.hasClass("map-weighted") {
+			t.Errorf("disc %d with weight %v has class %q", i, w, d.Attr["class"])
+		}
+	}
+	// Area ∝ weight: a quarter of the weight, half the radius.
+	if r1, r2 := radius["0.5"], radius["0.125"]; math.Abs(r1/r2-2) > 0.01 {
+		t.Errorf("radii %v and %v for weights 0.5 and 0.125, want 2:1", r1, r2)
+	}
+	cut := find(ns, "line", "map-cut")
+	if len(cut) != 1 || math.Abs(cut[0].num(t, "x1")-x(-1)) > 0.02 {
+		t.Fatalf("cut-off line %+v, want at x(0.1) = %v", cut, x(-1))
+	}
+	shade := find(ns, "rect", "map-below-cut")
+	area := find(ns, "rect", "plot-area")
+	if len(shade) != 1 || math.Abs(shade[0].num(t, "x")+shade[0].num(t, "width")-x(-1)) > 0.02 || shade[0].num(t, "x") != area[0].num(t, "x") {
+		t.Errorf("shade %+v does not run from the plot's left edge to the cut-off", shade)
+	}
+	if len(find(ns, "path", "map-pool")) != 1 {
+		t.Error("no diamond for the weighted pool")
+	}
+	for _, want := range []string{"Expert A · 50%", "Expert B · 12.5%", "Expert C · 0%", "cut-off α = 0.1", "weighted pool",
+		"Experts left of the cut-off α = 0.1 get weight 0", "calibration 0.5, information 1.5"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("weight map lacks %q", want)
+		}
+	}
+}
+
+// labelBoxes estimates the boxes of the map's labels from their anchor
+// and length, at the widest the CSS draws them.
+func labelBoxes(t *testing.T, ns []node) []labelBox {
+	var out []labelBox
+	for _, n := range ns {
+		if n.Name != "text" || !(n.hasClass("map-label") || n.hasClass("map-cut-label")) {
+			continue
+		}
+		w := float64(len([]rune(n.Text))) * mapCharW
+		x, y := n.num(t, "x"), n.num(t, "y")
+		b := labelBox{y0: y - 14, y1: y + 4}
+		switch n.Attr["text-anchor"] {
+		case "end":
+			b.x0, b.x1 = x-w, x
+		case "middle":
+			b.x0, b.x1 = x-w/2, x+w/2
+		default:
+			b.x0, b.x1 = x, x+w
+		}
+		out = append(out, b)
+	}
+	return out
+}
+
+// TestWeightMapLabelsDoNotCollide: experts with the same scores (a
+// common case on few calibration questions) get labels that neither
+// overlap nor leave the picture.
+func TestWeightMapLabelsDoNotCollide(t *testing.T) {
+	var rows []ScoreRow
+	for i := 0; i < 8; i++ {
+		rows = append(rows, ScoreRow{Expert: "Invented expert " + strconv.Itoa(i+1), Calibration: 0.8, Information: 0.2, Weight: 0.125})
+	}
+	rows = append(rows, ScoreRow{Expert: "Far right", Calibration: 1, Information: 0.21, Weight: 0})
+	html := render(t, Scores(ScoresView{Alpha: 0.5, Rows: rows, Pooled: &ScoreRow{Calibration: 0.8, Information: 0.2}}))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	boxes := labelBoxes(t, ns)
+	if len(boxes) != len(rows)+2 {
+		t.Fatalf("%d labels, want %d", len(boxes), len(rows)+2)
+	}
+	width := mapLeft + mapWidth + mapRight
+	for i, a := range boxes {
+		if a.x0 < 0 || a.x1 > width || a.y0 < 0 {
+			t.Errorf("label %d at [%v, %v] × [%v, %v] leaves the picture", i, a.x0, a.x1, a.y0, a.y1)
+		}
+		for j, b := range boxes[:i] {
+			if a.overlaps(b) {
+				t.Errorf("labels %d and %d overlap", j, i)
+			}
+		}
+	}
+	if n := len(find(ns, "line", "map-leader")); n == 0 {
+		t.Error("labels moved away from their discs without a leader line")
+	}
+}
+
+func TestWeightMapRefusesBrokenNumbers(t *testing.T) {
+	html := render(t, Scores(ScoresView{Alpha: math.NaN(), Rows: []ScoreRow{
+		{Expert: "Broken", Calibration: math.NaN(), Information: math.Inf(1), Weight: 2},
+		{Expert: "Fine", Calibration: 1e-30, Information: 1, Weight: 1},
+	}, Pooled: &ScoreRow{Calibration: math.Inf(1)}}))
+	checkFinite(t, html)
+	if strings.Contains(html, "Broken") {
+		t.Error("an expert with broken scores was drawn")
+	}
+	// A score below the lowest decade drawn sits on the left edge and
+	// says its value.
+	if !strings.Contains(html, "Fine · 100% (calibration 1e-30)") || !strings.Contains(html, `data-clipped="true"`) {
+		t.Error("a tiny calibration score is not marked")
+	}
+	if strings.Contains(html, "map-pool") {
+		t.Error("a pool with broken scores was drawn")
+	}
+	if !strings.Contains(render(t, Scores(ScoresView{})), "No calibration scores yet") {
+		t.Error("an empty map does not say so")
+	}
+}
+
+func TestSteadinessDrawsEachRerun(t *testing.T) {
+	v := SteadinessView{Targets: []SteadinessTarget{{
+		Title: "Q1 invented failure share", Lower: 0, Upper: 1, Full: [3]float64{0.02, 0.05, 0.12},
+		Rows: []SteadinessRow{
+			{Label: "without Q2", Pool: &[3]float64{0.03, 0.06, 0.15}, Shift: 0.03},
+			{Label: "without an expert whose name is long", Pool: &[3]float64{0.01, 0.04, 0.10}, Shift: 0.02},
+			{Label: "without Q3", Note: "no expert with weight left"},
+		},
+	}}}
+	html := render(t, Steadiness(v))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	x := axisMap(t, find(ns, "line", "grid-x"), "x1", parseNumber)
+	lines := find(ns, "line", "steady-interval")
+	if len(lines) != 3 {
+		t.Fatalf("%d intervals, want the whole panel's and two reruns'", len(lines))
+	}
+	for i, l := range lines {
+		if math.Abs(l.num(t, "x1")-x(parseNumber(l.Attr["data-p05"]))) > 0.02 || math.Abs(l.num(t, "x2")-x(parseNumber(l.Attr["data-p95"]))) > 0.02 {
+			t.Errorf("interval %d at %v–%v, not at its percentiles", i, l.Attr["x1"], l.Attr["x2"])
+		}
+	}
+	band := find(ns, "rect", "steady-band")
+	if len(band) != 1 || math.Abs(band[0].num(t, "x")-x(0.02)) > 0.02 || math.Abs(band[0].num(t, "x")+band[0].num(t, "width")-x(0.12)) > 0.02 {
+		t.Errorf("band %+v, want the whole panel's 0.02 to 0.12", band)
+	}
+	for _, want := range []string{"whole panel", "no expert with weight left", "0.03", "The largest is 0.03, without Q2.", "without an expert whose…"} {
+		if !strings.Contains(html, want) {
+			t.Errorf("steadiness lacks %q", want)
+		}
+	}
+	if !strings.Contains(render(t, Steadiness(SteadinessView{Targets: []SteadinessTarget{{Title: "Q9", Lower: 0, Upper: 1, Full: [3]float64{math.NaN(), 0, 0}}}})),
+		"no performance-weighted pool on Q9") {
+		t.Error("a target without a pool is not said")
+	}
+}
