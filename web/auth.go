@@ -41,12 +41,22 @@ func newToken() (token string, hash []byte, err error) {
 	return base64.RawURLEncoding.EncodeToString(b), sum[:], nil
 }
 
+// tokenLength is the length of a token as written: 32 bytes in unpadded
+// base64 take 43 characters.
+var tokenLength = base64.RawURLEncoding.EncodedLen(TokenBytes)
+
 // tokenHash decodes a token and returns the SHA-256 of its raw bytes. A
 // string that is not a Parley token gives ok false, so lookups of
-// malformed tokens never reach the store.
+// malformed tokens never reach the store. Each token has exactly one
+// spelling: the decoder alone would also take other last characters
+// (their unused low bits are ignored) and skip CR and LF anywhere, so the
+// bytes must encode back to the very string given.
 func tokenHash(token string) (hash []byte, ok bool) {
-	b, err := base64.RawURLEncoding.DecodeString(token)
-	if err != nil || len(b) != TokenBytes {
+	if len(token) != tokenLength {
+		return nil, false
+	}
+	b, err := base64.RawURLEncoding.Strict().DecodeString(token)
+	if err != nil || len(b) != TokenBytes || base64.RawURLEncoding.EncodeToString(b) != token {
 		return nil, false
 	}
 	sum := sha256.Sum256(b)
