@@ -663,7 +663,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	if err != nil {
 		// The page is still useful without the panel; it says so, and the
 		// cause is logged.
-		s.log.ErrorContext(r.Context(), "round feedback", "question", sc.question.ID, "err", err)
+		s.logFailure(r, "round feedback", err, "question", sc.question.ID)
 		return nil, nil, true
 	}
 	if fb == nil {

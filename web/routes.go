@@ -6,7 +6,6 @@ import (
 	"net/http"
 
 	"github.com/go-chi/chi/v5"
-	"github.com/go-chi/chi/v5/middleware"
 )
 
 // static holds every file in web/static: stylesheets, the chart styles
@@ -25,7 +24,7 @@ var static embed.FS
 //	everything else           the facilitator's pages (facilitator*.go), behind requireFacilitator
 func (s *Server) routes() http.Handler {
 	r := chi.NewRouter()
-	r.Use(middleware.Recoverer, securityHeaders, limitBody, crossOrigin)
+	r.Use(s.recoverPanics, securityHeaders, limitBody, crossOrigin)
 	r.NotFound(s.notFound)
 	r.MethodNotAllowed(func(w http.ResponseWriter, r *http.Request) {
 		s.renderPage(w, r, http.StatusMethodNotAllowed, PageMeta{Title: "Not allowed"},

@@ -8,9 +8,12 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"log/slog"
 	"net/http"
+	"regexp"
 	"runtime"
+	"runtime/debug"
 	"strings"
 	"sync"
 	"time"
@@ -91,7 +94,10 @@ func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, c te
 		if held {
 			buf.Reset()
 		}
-		s.log.ErrorContext(r.Context(), "render", "path", r.URL.Path, "err", err)
+		s.logFailure(r, "render", err)
+		if r.Context().Err() != nil {
+			return // nobody is waiting for the page
+		}
 		w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 		w.WriteHeader(http.StatusInternalServerError)
 		_, _ = w.Write([]byte("Parley could not draw this page. The error is in the server log.\n"))
@@ -145,10 +151,11 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	case errors.Is(err, elicit.ErrRoundClosed):
 		s.renderPage(w, r, http.StatusConflict, PageMeta{Title: "Round closed"},
 			messagePage("Round closed", "The round is closed, so nothing was saved."))
-	case errors.Is(err, context.Canceled):
+	case errors.Is(err, context.Canceled) || r.Context().Err() != nil:
 		// The client went away; nothing to answer.
+		s.logFailure(r, "request", err)
 	default:
-		s.log.ErrorContext(r.Context(), "request", "method", r.Method, "path", r.URL.Path, "err", err)
+		s.logFailure(r, "request", err)
 		s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
 			messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 	}
@@ -159,4 +166,70 @@ func detailSuffix(d string) string {
 		return ""
 	}
 	return " (" + d + ")"
+}
+
+// logFailure logs a request's failure at ERROR level, or at DEBUG when
+// the client abandoned the request (closed the tab, stopped loading, lost
+// the network): that is nothing wrong with the server, and hundreds of
+// such lines would bury the real errors.
+func (s *Server) logFailure(r *http.Request, msg string, err error, extra ...any) {
+	attrs := append(requestAttrs(r, err), extra...)
+	if r.Context().Err() != nil || errors.Is(err, context.Canceled) {
+		s.log.DebugContext(r.Context(), msg+": abandoned by the client", attrs...)
+		return
+	}
+	s.log.ErrorContext(r.Context(), msg, attrs...)
+}
+
+// recoverPanics turns a panic in a handler into the server-error page and
+// one log line, with the request described by requestAttrs, so no token
+// reaches the log this way either.
+func (s *Server) recoverPanics(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		defer func() {
+			v := recover()
+			if v == nil {
+				return
+			}
+			if v == http.ErrAbortHandler {
+				panic(v)
+			}
+			s.logFailure(r, "panic", fmt.Errorf("%v", v), "stack", string(debug.Stack()))
+			s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
+				messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
+		}()
+		next.ServeHTTP(w, r)
+	})
+}
+
+// requestAttrs describes a request and its error for the log without any
+// secret in it: an expert's token is replaced by "{token}" and the
+// expert's id is given instead, and anything else in the path long
+// enough to be a token is replaced too. Whoever reads the log cannot act
+// as an expert or as the facilitator.
+func requestAttrs(r *http.Request, err error) []any {
+	attrs := []any{"method", r.Method, "path", loggedPath(r.URL.Path)}
+	if e := expertFrom(r.Context()); e.ID != 0 {
+		attrs = append(attrs, "expert", e.ID)
+	}
+	if err != nil {
+		attrs = append(attrs, "err", tokenLike.ReplaceAllString(err.Error(), "{secret}"))
+	}
+	return attrs
+}
+
+// tokenLike matches a run of base64url characters as long as a token
+// (43); no other word in Parley's paths or messages is that long.
+var tokenLike = regexp.MustCompile(`[A-Za-z0-9_-]{40,}`)
+
+// loggedPath is path with the segment after /e/, the expert's token
+// however spelt, and anything token-like elsewhere replaced.
+func loggedPath(path string) string {
+	if rest, ok := strings.CutPrefix(path, "/e/"); ok {
+		path = "/e/{token}"
+		if i := strings.IndexByte(rest, '/'); i >= 0 {
+			path += rest[i:]
+		}
+	}
+	return tokenLike.ReplaceAllString(path, "{secret}")
 }
