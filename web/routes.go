@@ -35,7 +35,7 @@ func (s *Server) routes() http.Handler {
 	if err != nil {
 		panic(err) // the embed pattern above guarantees the directory
 	}
-	r.Handle("/static/*", http.StripPrefix("/static/", http.FileServerFS(sub)))
+	r.Handle("/static/*", http.StripPrefix("/static/", s.staticFiles(sub)))
 
 	r.Get("/signin", s.signInForm)
 	r.Post("/signin", s.signIn)
@@ -51,4 +51,18 @@ func (s *Server) routes() http.Handler {
 		s.facilitatorRoutes(r)
 	})
 	return r
+}
+
+// staticFiles serves the embedded assets by name only: a folder, and so
+// /static/ itself, is not found rather than listed.
+func (s *Server) staticFiles(fsys fs.FS) http.Handler {
+	files := http.FileServerFS(fsys)
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		fi, err := fs.Stat(fsys, r.URL.Path)
+		if err != nil || fi.IsDir() {
+			s.notFound(w, r)
+			return
+		}
+		files.ServeHTTP(w, r)
+	})
 }

@@ -83,7 +83,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		return fmt.Errorf("no facilitator secret is set, so Parley will not listen (%v)", err)
 	}
 
-	ln, err := net.Listen("tcp", c.addr)
+	ln, err := net.Listen(listenNetwork(host), c.addr)
 	if err != nil {
 		return err
 	}
@@ -97,7 +97,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 	if !isLoopback(host) {
 		fmt.Fprintf(stderr, "parley: WARNING: listening on %s, reachable from other machines on the network. "+
-			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", ln.Addr())
+			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", listening(ln.Addr()))
 		if ip := net.ParseIP(host); c.baseURL == "" && (host == "" || (ip != nil && ip.IsUnspecified())) {
 			fmt.Fprintln(stderr, "parley: links are printed for 127.0.0.1; pass --base-url http://THIS-MACHINE'S-ADDRESS:PORT so experts' links work on their own devices.")
 		}
@@ -161,6 +161,38 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		err = e
 	}
 	return err
+}
+
+// listenNetwork is the network to listen on for host: an IPv4 address,
+// 0.0.0.0 included, means IPv4 only ("tcp4"; plain "tcp" would make
+// 0.0.0.0 listen on every IPv6 address too), an IPv6 address IPv6 only;
+// a name or no host leaves the choice to the system.
+func listenNetwork(host string) string {
+	ip := net.ParseIP(host)
+	switch {
+	case ip == nil:
+		return "tcp"
+	case ip.To4() != nil:
+		return "tcp4"
+	}
+	return "tcp6"
+}
+
+// listening describes a listener's address for the start-up warning,
+// saying in words what a wildcard address covers.
+func listening(a net.Addr) string {
+	host, _, err := net.SplitHostPort(a.String())
+	if err != nil {
+		return a.String()
+	}
+	ip := net.ParseIP(host)
+	switch {
+	case ip == nil || !ip.IsUnspecified():
+		return a.String()
+	case ip.To4() != nil:
+		return a.String() + " (every IPv4 address of this machine)"
+	}
+	return a.String() + " (every IPv6 address of this machine, and IPv4 where the system maps it)"
 }
 
 // isLoopback reports whether host names only this machine.

@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"io"
+	"net"
 	"net/http"
 	"net/http/cookiejar"
 	"net/url"
@@ -152,10 +153,24 @@ func TestServeNoDemo(t *testing.T) {
 	}
 }
 
+// TestServeWarnsOffLoopback: --addr 0.0.0.0 listens on IPv4 only, and
+// the warning names the address really listened on (issue 13, item 9).
 func TestServeWarnsOffLoopback(t *testing.T) {
-	_, _, errOut, stop := startServe(t, serveConfig{addr: "0.0.0.0:0", db: filepath.Join(t.TempDir(), "p.db"), noDemo: true})
-	if !strings.Contains(errOut.String(), "WARNING") {
-		t.Errorf("no warning for a non-loopback address: %q", errOut)
+	base, _, errOut, stop := startServe(t, serveConfig{addr: "0.0.0.0:0", db: filepath.Join(t.TempDir(), "p.db"), noDemo: true})
+	warning := errOut.String()
+	_, port, _ := net.SplitHostPort(strings.TrimPrefix(base, "http://"))
+	if !strings.Contains(warning, "WARNING: listening on 0.0.0.0:"+port+" (every IPv4 address of this machine)") || strings.Contains(warning, "[::]") {
+		t.Errorf("the warning does not name 0.0.0.0:%s: %q", port, warning)
+	}
+	if c, err := net.DialTimeout("tcp4", "127.0.0.1:"+port, 5*time.Second); err != nil {
+		t.Errorf("IPv4 loopback: %v", err)
+	} else {
+		c.Close()
+	}
+	// [::1] is on this machine (the test's only traffic stays on it).
+	if c, err := net.DialTimeout("tcp6", "[::1]:"+port, 5*time.Second); err == nil {
+		c.Close()
+		t.Errorf("--addr 0.0.0.0 also answers on IPv6 [::1]:%s", port)
 	}
 	if err := stop(); err != nil {
 		t.Fatal(err)
