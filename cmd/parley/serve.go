@@ -72,6 +72,9 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 	defer db.Close()
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
+	if _, err := db.PurgeSessions(ctx, time.Now()); err != nil {
+		return err
+	}
 
 	// The secret exists before anything binds, so a non-loopback address is
 	// never served without one.
@@ -127,9 +130,10 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 	fmt.Fprintf(stdout, "parley: serving at %s/\n", base)
 	if secret != "" {
-		fmt.Fprintf(stdout, "parley: facilitator sign-in (shown once, keep it private): %s%s\n", base, web.SignInPath(secret))
+		fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): %s%s\n", base, web.SignInPath(secret))
 	} else {
-		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin (lost the secret? parley facilitator-reset --db %s)\n", base, dbPath)
+		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin: the sign-in address printed earlier is still unused and works once "+
+			"(lost it? parley facilitator-reset --db %s --keep-signed-in)\n", base, dbPath)
 	}
 
 	hs := &http.Server{
