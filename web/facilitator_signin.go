@@ -14,16 +14,25 @@ func (s *Server) signInForm(w http.ResponseWriter, r *http.Request) {
 }
 
 // signIn checks the posted secret against the stored hash and starts a
-// session. A wrong secret is 401 with the form again.
+// session. A wrong secret is 401 with the form again; an attempt over the
+// limits of signin_throttle.go is 429 and checks nothing.
 func (s *Server) signIn(w http.ResponseWriter, r *http.Request) {
 	if !parseForm(w, r) {
+		return
+	}
+	if wait := s.signIns.admit(clientAddress(r), s.now()); wait > 0 {
+		s.tooManySignIns(w, r, wait)
 		return
 	}
 	secret := strings.TrimSpace(r.PostForm.Get("secret"))
 	ok := false
 	// Only a string shaped like a Parley secret is worth a bcrypt comparison.
 	if _, valid := tokenHash(secret); valid {
-		matched, err := s.checkSecret(r.Context(), secret)
+		var matched []byte
+		err := s.signIns.compare(r.Context(), func() (err error) {
+			matched, err = s.checkSecret(r.Context(), secret)
+			return err
+		})
 		if err == nil && matched != nil {
 			ok, err = s.startSession(w, r, matched)
 		}

@@ -50,6 +50,8 @@ type Server struct {
 	// turns bounds the expert handlers running at once to the CPUs and
 	// puts previews and saves before pages (turns.go).
 	turns *turns
+	// signIns limits what sign-in attempts may cost (signin_throttle.go).
+	signIns *signInThrottle
 }
 
 // New returns a Server over st.
@@ -58,7 +60,7 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
-		turns: newTurns(runtime.GOMAXPROCS(0))}
+		turns: newTurns(runtime.GOMAXPROCS(0)), signIns: newSignInThrottle()}
 	if s.now == nil {
 		s.now = time.Now
 	}
