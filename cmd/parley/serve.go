@@ -66,6 +66,17 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("db", "%v", err)
 	}
+	// Before anything is opened: the file must be writable (or the first
+	// save would be the first to find out), and no other server may be
+	// serving it (each would serve rows the other changed).
+	if err := store.CheckWritable(dbPath); err != nil {
+		return err
+	}
+	claim, err := store.ClaimServing(dbPath)
+	if err != nil {
+		return err
+	}
+	defer claim.Release()
 	db, err := store.Open(dbPath)
 	if err != nil {
 		return err
