@@ -473,7 +473,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	a, fit, ok := readAnswer(sc.question, f)
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.
-	again := func(status int, closed string, fit *elicit.Fit) {
+	again := func(status int, closed, unsaved string, fit *elicit.Fit) {
 		if err := s.readOwn(r, &sc); err != nil {
 			s.fail(w, r, err)
 			return
@@ -488,15 +488,18 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		if closed != "" {
 			v.Open, v.Closed = false, closed
 		}
+		if unsaved != "" {
+			v.Form.Error = unsaved
+		}
 		s.renderQuestion(w, r, status, sc, v)
 	}
 	if !ok || !f.OK() {
-		again(http.StatusUnprocessableEntity, "", nil)
+		again(http.StatusUnprocessableEntity, "", "", nil)
 		return
 	}
 	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
 	if !sc.workshop.Open {
-		again(http.StatusConflict, closed, &fit)
+		again(http.StatusConflict, closed, "", &fit)
 		return
 	}
 	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
@@ -508,7 +511,14 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		if errors.Is(err, elicit.ErrRoundClosed) {
-			again(http.StatusConflict, closed, &fit)
+			again(http.StatusConflict, closed, "", &fit)
+			return
+		}
+		if serverFault(r, err) {
+			// Disk full or failing: the expert keeps what they typed and
+			// is told nothing was saved and what to do.
+			s.logFailure(r, "save", err)
+			again(http.StatusServiceUnavailable, "", notSavedForExpert, &fit)
 			return
 		}
 		s.fail(w, r, err)

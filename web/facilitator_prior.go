@@ -51,6 +51,10 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AgreePrior(r.Context(), &p); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showPanel(w, r, f.refusedStatus(), ws, q, nil, f)
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

@@ -69,6 +69,11 @@ func (s *Server) addQuestion(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AddQuestion(r.Context(), &q); err != nil {
+		if s.notSaved(r, f, err) {
+			s.renderPage(w, r, f.refusedStatus(), facilitatorMeta(ws, "Add a question", "overview"),
+				questionFormPage(questionForm{Workshop: ws, Form: f}))
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

@@ -31,6 +31,10 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AddExpert(r.Context(), &e, hash); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{ExpertForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -74,6 +78,10 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.RevokeExpert(r.Context(), e.ID, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -103,6 +111,10 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.ReissueToken(r.Context(), e.ID, hash, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

@@ -29,6 +29,10 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.SetRound(r.Context(), ws.ID, round, opening, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RoundForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

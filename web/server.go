@@ -163,6 +163,40 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	}
 }
 
+// The sentences shown beside a form that was fine but could not be saved
+// because of the server: its disk is full or failing, or the database
+// became read-only. The typed values are kept on the form.
+const (
+	notSavedForExpert = "Nothing was saved: the server could not write your answer down just now. " +
+		"Your values are kept below. Try Save again in a minute; if it still fails, tell the facilitator."
+	notSavedForFacilitator = "Nothing was saved: the database could not be written (the disk may be full or failing; " +
+		"the server log has the cause). What you entered is kept below: free some space or fix the disk, then send the form again."
+)
+
+// serverFault reports whether err, from a save, is the server's own
+// failure (disk full, I/O error, a read-only database) rather than a
+// refusal of the domain's (not found, bad input, round closed) or a
+// client that went away.
+func serverFault(r *http.Request, err error) bool {
+	var ie *elicit.InputError
+	return err != nil && r.Context().Err() == nil && !errors.Is(err, context.Canceled) &&
+		!errors.Is(err, elicit.ErrNotFound) && !errors.As(err, &ie) && !errors.Is(err, elicit.ErrRoundClosed)
+}
+
+// notSaved takes a facilitator's form whose save failed with err. When
+// the failure is the server's it logs it, puts the sentence on the form
+// and reports true: the caller shows the form again, typed values kept,
+// with f.refusedStatus() (503). Otherwise it does nothing.
+func (s *Server) notSaved(r *http.Request, f *Form, err error) bool {
+	if !serverFault(r, err) {
+		return false
+	}
+	s.logFailure(r, "save", err)
+	f.set("", notSavedForFacilitator)
+	f.unsaved = true
+	return true
+}
+
 func detailSuffix(d string) string {
 	if d == "" {
 		return ""
