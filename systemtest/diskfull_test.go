@@ -2,6 +2,7 @@ package systemtest
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"html"
 	"net/http"
@@ -12,7 +13,9 @@ import (
 	"strings"
 	"syscall"
 	"testing"
+	"time"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -163,4 +166,81 @@ func countWorkshops(t *testing.T, dbPath string) int {
 		t.Fatal(err)
 	}
 	return len(ws)
+}
+
+// TestFailedImportLeavesNoFiles imports a record too large for a small
+// tmpfs with the real binary: into a new file, the import fails and
+// leaves the folder as it was (no database, no journal, no temporary
+// file); into an existing database, it fails and leaves that database as
+// it was, and nothing beside it (issue 13, item 9).
+func TestFailedImportLeavesNoFiles(t *testing.T) {
+	// A record of some 300 kB: 12 experts, 5 questions, long reasons.
+	ctx := context.Background()
+	srcPath := filepath.Join(t.TempDir(), "source.db")
+	ws := seedWorkshop(t, srcPath, 12, 5)
+	src, err := store.Open(srcPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	reason := strings.Repeat("Invented reasoning about the batch. ", 110) // under the 4000-character limit
+	for _, e := range ws.experts {
+		for _, q := range ws.questions {
+			if err := src.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: e.id, Reason: reason,
+				Answer: elicit.Answer{Values: []float64{0.02, 0.05, 0.11}}}); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	rec, err := src.Record(ctx, ws.workshopID, time.Date(2026, 12, 1, 0, 0, 0, 0, time.UTC))
+	src.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	recPath := filepath.Join(t.TempDir(), "record.json")
+	b, err := json.Marshal(rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(recPath, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+
+	mnt := mountTmpfs(t, "256k")
+	if mnt == "" {
+		t.Skip("SKIPPED: mounting a small tmpfs is not allowed here (see the message above)")
+	}
+	listing := func() []string {
+		entries, err := os.ReadDir(mnt)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var names []string
+		for _, e := range entries {
+			names = append(names, e.Name())
+		}
+		return names
+	}
+
+	newDB := filepath.Join(mnt, "imported.db")
+	code, _, stderr := runParley(t, -1, 60*time.Second, "import", "--db", newDB, "--in", recPath)
+	if code != 1 || !strings.Contains(stderr, "full") {
+		t.Fatalf("import of %d kB into a 256 kB filesystem: exit %d, %s", len(b)>>10, code, stderr)
+	}
+	if left := listing(); len(left) != 0 {
+		t.Errorf("a failed import into a new file left %v", left)
+	}
+
+	existing := filepath.Join(mnt, "existing.db")
+	small := seedWorkshop(t, existing, 1, 1)
+	before := listing()
+	code, _, stderr = runParley(t, -1, 60*time.Second, "import", "--db", existing, "--in", recPath)
+	if code != 1 {
+		t.Fatalf("import into an existing database on a full disk: exit %d, %s", code, stderr)
+	}
+	if after := listing(); strings.Join(after, " ") != strings.Join(before, " ") {
+		t.Errorf("a failed import into an existing database: files %v before, %v after", before, after)
+	}
+	if revs := checkStored(t, existing, small.workshopID); len(revs) != 0 || countWorkshops(t, existing) != 1 {
+		t.Errorf("the existing database changed: %d revisions, %d workshops", len(revs), countWorkshops(t, existing))
+	}
 }
