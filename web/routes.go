@@ -16,9 +16,9 @@ var static embed.FS
 
 // routes builds the whole URL space.
 //
-//	GET  /static/*            embedded assets
-//	GET  /signin              sign-in form (the one-time address carries the secret in #fragment)
-//	POST /signin              check the secret, start a session
+//	GET  /static/*            embedded assets, by name (no listings)
+//	GET  /signin              sign-in form (the sign-in address, good once, carries the secret in #fragment)
+//	POST /signin              check the secret (throttled), spend it, start a session
 //	POST /signout             end the session
 //	/e/{token}/...            an expert's private pages (expert.go), token resolved by requireExpert
 //	everything else           the facilitator's pages (facilitator*.go), behind requireFacilitator
