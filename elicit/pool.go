@@ -98,18 +98,7 @@ func poolWeights(dists []ScaledBeta, weights []float64) ([]float64, error) {
 	if maxW == 0 {
 		return nil, inputErr("weights", RuleWeightsNotAllZero, "")
 	}
-	// Dividing by the largest weight first keeps the sum finite for
-	// weights near the largest float64.
-	w := make([]float64, len(weights))
-	var sum float64
-	for i, x := range weights {
-		w[i] = x / maxW
-		sum += w[i]
-	}
-	for i := range w {
-		w[i] /= sum
-	}
-	return w, nil
+	return Shares(weights), nil
 }
 
 // prefixField puts prefix in front of the field of an *InputError.
@@ -684,13 +673,5 @@ func PoolPanel(panel []PanelFit, w Weights) (PanelPool, error) {
 	if err != nil {
 		return PanelPool{}, err
 	}
-	total := 0.0
-	for _, v := range raw {
-		total += v
-	}
-	pp := PanelPool{Pool: pool, Experts: ids, Weights: make([]float64, len(raw))}
-	for i, v := range raw {
-		pp.Weights[i] = v / total
-	}
-	return pp, nil
+	return PanelPool{Pool: pool, Experts: ids, Weights: Shares(raw)}, nil
 }

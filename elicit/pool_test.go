@@ -628,3 +628,25 @@ func TestPoolPanel(t *testing.T) {
 		t.Errorf("equal weights: %v, %v", pp.Weights, err)
 	}
 }
+
+// TestShares checks elicit.Shares against shares worked by hand: w_i/Σw.
+func TestShares(t *testing.T) {
+	cases := []struct {
+		raw, want []float64
+	}{
+		{[]float64{1, 1, 2}, []float64{0.25, 0.25, 0.5}},                           // by hand
+		{[]float64{1e308, 1e308, 1e308, 1e308}, []float64{0.25, 0.25, 0.25, 0.25}}, // the sum overflows float64; the shares do not
+		{[]float64{3, 0}, []float64{1, 0}},
+		{[]float64{5e-324, 5e-324}, []float64{0.5, 0.5}}, // subnormal weights
+		{[]float64{0, 0}, nil},
+		{[]float64{1, -1}, nil},
+		{[]float64{1, math.Inf(1)}, nil},
+		{[]float64{math.NaN()}, nil},
+		{nil, nil},
+	}
+	for _, c := range cases {
+		if got := Shares(c.raw); !slices.Equal(got, c.want) {
+			t.Errorf("Shares(%v) = %v, want %v", c.raw, got, c.want)
+		}
+	}
+}

@@ -552,12 +552,9 @@ func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSum
 		return nil, err.Error()
 	}
 	s := &PoolSummary{Mean: pool.Mean(), SD: pool.SD(), Percentiles: Percentiles{qs[0], qs[1], qs[2]}}
-	total := 0.0
-	for _, w := range weights {
-		total += w
-	}
+	shares := Shares(weights)
 	for i, id := range ids {
-		s.Weights = append(s.Weights, ExpertWeight{ExpertID: id, Weight: weights[i] / total})
+		s.Weights = append(s.Weights, ExpertWeight{ExpertID: id, Weight: shares[i]})
 	}
 	return s, ""
 }

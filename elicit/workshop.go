@@ -1,6 +1,9 @@
 package elicit
 
-import "time"
+import (
+	"math"
+	"time"
+)
 
 // AnswerFormat is how experts answer a question.
 type AnswerFormat string
@@ -256,6 +259,37 @@ func (w Weights) Of(expertID int64) float64 {
 		return 1
 	}
 	return w.ByExpert[expertID]
+}
+
+// Shares turns unnormalised pool weights into each one's share of the
+// pool, w_i / Σ_j w_j, summing to 1. It divides by the largest weight
+// before summing, so weights near the largest float64 (four of 1e308)
+// give their true shares instead of an overflowed sum and shares of 0.
+// Every share shown or recorded (the facilitator's panel, the decision
+// log, the export) and the pool's own normalisation come from here.
+// It returns nil when a weight is negative, NaN or infinite, or no weight
+// is above zero: such weights have no shares.
+func Shares(raw []float64) []float64 {
+	var largest float64
+	for _, x := range raw {
+		if math.IsNaN(x) || math.IsInf(x, 0) || x < 0 {
+			return nil
+		}
+		largest = math.Max(largest, x)
+	}
+	if largest == 0 {
+		return nil
+	}
+	out := make([]float64, len(raw))
+	var sum float64
+	for i, x := range raw {
+		out[i] = x / largest
+		sum += out[i]
+	}
+	for i := range out {
+		out[i] /= sum
+	}
+	return out
 }
 
 // PriorSource says how an agreed prior was reached.

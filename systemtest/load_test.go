@@ -2,6 +2,8 @@ package systemtest
 
 import (
 	"context"
+	"crypto/rand"
+	"encoding/base64"
 	"fmt"
 	"log/slog"
 	mrand "math/rand/v2"
@@ -14,6 +16,7 @@ import (
 	"strconv"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"syscall"
 	"testing"
 	"time"
@@ -30,6 +33,11 @@ type loadSize struct {
 	// workshop is served; otherwise the server runs inside the test's
 	// process, where the race detector sees it.
 	child bool
+	// flood is the number of clients, each from its own loopback
+	// address, that post well-shaped wrong secrets to /signin all through
+	// the run, while an unused sign-in address exists (so every admitted
+	// attempt costs a bcrypt comparison).
+	flood int
 }
 
 // fullLoad is the workshop of issue 4: 200 experts, 10 questions, 2
@@ -87,7 +95,16 @@ type loadResult struct {
 	acked    int
 	stored   int
 	lines    []string // one per endpoint: successes, failures, p50, p99, max, successes/s
-	p99      map[string]time.Duration
+	p50, p99 map[string]time.Duration
+	flood    floodResult
+}
+
+// floodResult counts the sign-in flood's answers.
+type floodResult struct {
+	attempts, refused429, refused401, other int64
+	// compared is the comparisons the server made (in-process only; -1
+	// when the server is a child process).
+	compared int64
 }
 
 func (r loadResult) report() string {
@@ -108,6 +125,15 @@ func (r loadResult) report() string {
 		fmt.Fprintf(&b, "server: in the test's process; CPU used by the process (server and clients together): %v, %.2f ms per request; "+
 			"the latencies below include waiting for a CPU on a shared machine\n",
 			r.cpu.Round(time.Millisecond), perReq(r.cpu))
+	}
+	if r.size.flood > 0 {
+		f := r.flood
+		fmt.Fprintf(&b, "sign-in flood: %d clients from their own loopback addresses, %d attempts (%.0f/s): %d answered 429, %d answered 401, %d other",
+			r.size.flood, f.attempts, float64(f.attempts)/r.elapsed.Seconds(), f.refused429, f.refused401, f.other)
+		if f.compared >= 0 {
+			fmt.Fprintf(&b, "; %d bcrypt comparisons made", f.compared)
+		}
+		b.WriteString("\n")
 	}
 	fmt.Fprintf(&b, "%-20s %7s %7s %9s %9s %9s %9s\n", "endpoint", "ok", "failed", "p50", "p99", "max", "ok/s")
 	for _, l := range r.lines {
@@ -154,6 +180,7 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		base      string
 		serverLog func() string
 		server    *child
+		hashReads = &countingStore{DB: db}
 	)
 	if size.child {
 		server = startServer(tb, parleyBinary(tb), dbPath, freeAddr(tb))
@@ -161,7 +188,7 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		base, serverLog = server.base, func() string { return server.out.tail(2000) }
 	} else {
 		logs := &lockedBuffer{}
-		srv, err := web.New(db, web.Options{Logger: slog.New(slog.NewTextHandler(logs, nil))})
+		srv, err := web.New(hashReads, web.Options{Logger: slog.New(slog.NewTextHandler(logs, nil))})
 		if err != nil {
 			tb.Fatal(err)
 		}
@@ -277,6 +304,28 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 	}
 	roundPath := "/w/" + strconv.FormatInt(ws.workshopID, 10) + "/round"
 
+	// The flood runs from before the first round until the last ends.
+	var flood floodResult
+	stopFlood := func() {}
+	if size.flood > 0 {
+		// An unused address makes every admitted attempt a bcrypt
+		// comparison, the worst case; the facilitator stays signed in.
+		if _, err := web.IssueFacilitatorSecret(ctx, db); err != nil {
+			tb.Fatal(err)
+		}
+		fctx, cancelFlood := context.WithCancel(ctx)
+		var fwg sync.WaitGroup
+		for i := 0; i < size.flood; i++ {
+			fwg.Add(1)
+			go func() {
+				defer fwg.Done()
+				floodSignIn(fctx, base, "127.0.0."+strconv.Itoa(10+i), &flood)
+			}()
+		}
+		stopFlood = func() { cancelFlood(); fwg.Wait() }
+	}
+	hashReads.reads.Store(0)
+
 	cpu0 := processCPU()
 	var child0 time.Duration
 	if server != nil {
@@ -292,6 +341,11 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		playRound(round)
 	}
 	elapsed := time.Since(start)
+	stopFlood()
+	flood.compared = -1
+	if server == nil {
+		flood.compared = hashReads.reads.Load()
+	}
 	cpu := processCPU() - cpu0
 	var childCPU time.Duration
 	if server != nil {
@@ -331,7 +385,8 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		tb.Errorf("integrity check after load: %q, %v", verdict, err)
 	}
 
-	res := loadResult{size: size, elapsed: elapsed, cpu: cpu, childCPU: childCPU, acked: len(acked), stored: len(revs), p99: map[string]time.Duration{}}
+	res := loadResult{size: size, elapsed: elapsed, cpu: cpu, childCPU: childCPU, acked: len(acked), stored: len(revs),
+		p50: map[string]time.Duration{}, p99: map[string]time.Duration{}, flood: flood}
 	lat.mu.Lock()
 	defer lat.mu.Unlock()
 	for _, ep := range endpoints {
@@ -341,11 +396,57 @@ func runWorkshopLoad(tb testing.TB, size loadSize) loadResult {
 		if len(d) == 0 {
 			continue
 		}
-		res.p99[ep] = quantile(d, 0.99)
+		res.p50[ep], res.p99[ep] = quantile(d, 0.50), quantile(d, 0.99)
 		res.lines = append(res.lines, fmt.Sprintf("%-20s %7d %7d %9s %9s %9s %9.1f", ep, len(d), lat.fails[ep],
 			ms(quantile(d, 0.50)), ms(quantile(d, 0.99)), ms(d[len(d)-1]), float64(len(d))/elapsed.Seconds()))
 	}
 	return res
+}
+
+// countingStore counts reads of the facilitator's secret hash: each
+// sign-in comparison starts with one.
+type countingStore struct {
+	*store.DB
+	reads atomic.Int64
+}
+
+func (s *countingStore) FacilitatorHash(ctx context.Context) ([]byte, error) {
+	s.reads.Add(1)
+	return s.DB.FacilitatorHash(ctx)
+}
+
+// floodSignIn posts well-shaped wrong secrets to /signin from the
+// loopback address ip, one every 50 ms at most, until ctx ends, and
+// counts the answers in f.
+func floodSignIn(ctx context.Context, base, ip string, f *floodResult) {
+	d := &net.Dialer{LocalAddr: &net.TCPAddr{IP: net.ParseIP(ip)}, Timeout: 5 * time.Second}
+	cl := &http.Client{
+		Transport:     &http.Transport{DialContext: d.DialContext, MaxIdleConnsPerHost: 1},
+		CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse },
+	}
+	defer cl.CloseIdleConnections()
+	for ctx.Err() == nil {
+		b := make([]byte, 32)
+		_, _ = rand.Read(b)
+		token := base64.RawURLEncoding.EncodeToString(b)
+		status, _, err := postForm(ctx, cl, base, "/signin", url.Values{"secret": {token}})
+		if ctx.Err() != nil {
+			return
+		}
+		atomic.AddInt64(&f.attempts, 1)
+		switch {
+		case err == nil && status == http.StatusTooManyRequests:
+			atomic.AddInt64(&f.refused429, 1)
+		case err == nil && status == http.StatusUnauthorized:
+			atomic.AddInt64(&f.refused401, 1)
+		default:
+			atomic.AddInt64(&f.other, 1)
+		}
+		select {
+		case <-ctx.Done():
+		case <-time.After(50 * time.Millisecond):
+		}
+	}
 }
 
 // pidCPU is a process's user plus system CPU time so far, from
@@ -462,5 +563,66 @@ func BenchmarkWorkshopLoad(b *testing.B) {
 				b.Logf("load figures written to %s", writeLoadReport(b, r))
 			}
 		})
+	}
+}
+
+// floodClients is the size of the sign-in flood: 8 clients, each from its
+// own address, as in the attack that found the hole (issue 13).
+const floodClients = 8
+
+// TestSignInFloodDuringLoad plays the reduced workshop twice, quiet and
+// under a sign-in flood, against the in-process server. It asserts what
+// bounds the flood's cost: attempts over the limits get 429, the server
+// makes no more bcrypt comparisons than the overall allowance (the burst
+// plus one a second), and every expert request still succeeds. How much
+// the flood slows previews is reported here and measured at full size by
+// BenchmarkWorkshopLoadSignInFlood; timings are never asserted.
+func TestSignInFloodDuringLoad(t *testing.T) {
+	size := loadSize{experts: 64, questions: 2, rounds: 1, clients: 64, limit: 3 * time.Minute}
+	if raceOn {
+		size.questions = 1
+	}
+	quiet := runWorkshopLoad(t, size)
+	size.flood = floodClients
+	flooded := runWorkshopLoad(t, size)
+	f := flooded.flood
+	if f.refused429 == 0 || f.other != 0 {
+		t.Errorf("flood: %d attempts, %d answered 429, %d neither 401 nor 429", f.attempts, f.refused429, f.other)
+	}
+	allowance := int64(web.SignInBurst) + int64(flooded.elapsed/web.SignInOverallEvery) + 1
+	if f.compared > allowance {
+		t.Errorf("the flood cost %d bcrypt comparisons in %v; the overall allowance is %d", f.compared, flooded.elapsed, allowance)
+	}
+	t.Logf("\nquiet:\n%s\nunder the flood:\n%s", quiet.report(), flooded.report())
+	t.Logf("preview p50 %s quiet, %s under the flood (x%.2f); p99 %s and %s",
+		ms(quiet.p50[epPreview]), ms(flooded.p50[epPreview]), ratio(flooded.p50[epPreview], quiet.p50[epPreview]),
+		ms(quiet.p99[epPreview]), ms(flooded.p99[epPreview]))
+}
+
+func ratio(a, b time.Duration) float64 {
+	if b == 0 {
+		return 0
+	}
+	return float64(a) / float64(b)
+}
+
+// BenchmarkWorkshopLoadSignInFlood plays the full workshop against the
+// real binary twice in each iteration, quiet and under a flood of
+// sign-ins from 8 addresses (each posting a well-shaped wrong secret
+// every 50 ms while an unused sign-in address exists), and reports how
+// much the flood slows fit previews (target: at most 2x). Run with
+// -benchtime=1x.
+func BenchmarkWorkshopLoadSignInFlood(b *testing.B) {
+	for b.Loop() {
+		size := fullLoad
+		size.child = true
+		quiet := runWorkshopLoad(b, size)
+		size.flood = floodClients
+		flooded := runWorkshopLoad(b, size)
+		b.ReportMetric(float64(flooded.p50[epPreview])/1e6, "flood-preview-p50-ms")
+		b.ReportMetric(float64(flooded.p99[epPreview])/1e6, "flood-preview-p99-ms")
+		b.ReportMetric(ratio(flooded.p50[epPreview], quiet.p50[epPreview]), "preview-p50-x")
+		b.ReportMetric(ratio(flooded.p99[epPreview], quiet.p99[epPreview]), "preview-p99-x")
+		b.Logf("\nquiet:\n%s\nunder the flood:\n%s", quiet.report(), flooded.report())
 	}
 }

@@ -41,22 +41,48 @@ func newToken() (token string, hash []byte, err error) {
 	return base64.RawURLEncoding.EncodeToString(b), sum[:], nil
 }
 
+// tokenLength is the length of a token as written: 32 bytes in unpadded
+// base64 take 43 characters.
+var tokenLength = base64.RawURLEncoding.EncodedLen(TokenBytes)
+
 // tokenHash decodes a token and returns the SHA-256 of its raw bytes. A
 // string that is not a Parley token gives ok false, so lookups of
-// malformed tokens never reach the store.
+// malformed tokens never reach the store. Each token has exactly one
+// spelling: the decoder alone would also take other last characters
+// (their unused low bits are ignored) and skip CR and LF anywhere, so the
+// bytes must encode back to the very string given.
 func tokenHash(token string) (hash []byte, ok bool) {
-	b, err := base64.RawURLEncoding.DecodeString(token)
-	if err != nil || len(b) != TokenBytes {
+	if len(token) != tokenLength {
+		return nil, false
+	}
+	b, err := base64.RawURLEncoding.Strict().DecodeString(token)
+	if err != nil || len(b) != TokenBytes || base64.RawURLEncoding.EncodeToString(b) != token {
 		return nil, false
 	}
 	sum := sha256.Sum256(b)
 	return sum[:], true
 }
 
+// The facilitator's secret is a one-time password: the sign-in address
+// that carries it signs one browser in once (for SessionLifetime), and is
+// then spent. `parley serve` prints a new address at start when none is
+// unspent; `parley facilitator-reset` prints one at any time.
+
 // ResetFacilitatorSecret issues a new facilitator secret, stores only its
-// bcrypt hash (ending every open session) and returns the secret, which
-// is shown once and never again.
+// bcrypt hash and ends every open session (for a secret that may have
+// leaked). It returns the secret, which is shown once and never again.
 func ResetFacilitatorSecret(ctx context.Context, st Store) (string, error) {
+	return newFacilitatorSecret(ctx, st.SetFacilitatorHash)
+}
+
+// IssueFacilitatorSecret issues a new facilitator secret like
+// ResetFacilitatorSecret, but leaves browsers already signed in signed
+// in; an unspent earlier secret stops working.
+func IssueFacilitatorSecret(ctx context.Context, st Store) (string, error) {
+	return newFacilitatorSecret(ctx, st.IssueFacilitatorHash)
+}
+
+func newFacilitatorSecret(ctx context.Context, set func(context.Context, []byte) error) (string, error) {
 	secret, _, err := newToken()
 	if err != nil {
 		return "", err
@@ -65,15 +91,17 @@ func ResetFacilitatorSecret(ctx context.Context, st Store) (string, error) {
 	if err != nil {
 		return "", fmt.Errorf("web: hash facilitator secret: %w", err)
 	}
-	if err := st.SetFacilitatorHash(ctx, hash); err != nil {
+	if err := set(ctx, hash); err != nil {
 		return "", err
 	}
 	return secret, nil
 }
 
-// EnsureFacilitatorSecret creates the facilitator secret when the
-// database has none. It returns the new secret, or "" when one was
-// already set (its value is unrecoverable; use facilitator-reset).
+// EnsureFacilitatorSecret issues a facilitator secret when the database
+// has no unspent one (a new database, or the last sign-in address was
+// used), leaving open sessions open. It returns the new secret, or ""
+// when an unspent one exists (its value is unrecoverable; the address
+// printed with it still works once, and facilitator-reset makes another).
 func EnsureFacilitatorSecret(ctx context.Context, st Store) (string, error) {
 	h, err := st.FacilitatorHash(ctx)
 	if err != nil {
@@ -82,37 +110,47 @@ func EnsureFacilitatorSecret(ctx context.Context, st Store) (string, error) {
 	if len(h) > 0 {
 		return "", nil
 	}
-	return ResetFacilitatorSecret(ctx, st)
+	return IssueFacilitatorSecret(ctx, st)
 }
 
-// SignInPath returns the one-time sign-in address for secret. The secret
-// rides in the fragment, which browsers never send to a server or put in
-// a Referer; the sign-in page's script moves it into the form and posts.
+// SignInPath returns the sign-in address for secret, which works once.
+// The secret rides in the fragment, which browsers never send to a
+// server or put in a Referer; the sign-in page's script moves it into the
+// form, takes it out of the address bar and posts.
 func SignInPath(secret string) string { return "/signin#" + secret }
 
-// checkSecret compares a typed secret with the stored hash.
-func (s *Server) checkSecret(ctx context.Context, secret string) (bool, error) {
+// checkSecret compares a typed secret with the stored hash and returns
+// the hash it matched, to be spent by UseFacilitatorHash; nil when it
+// does not match or no secret is unspent.
+func (s *Server) checkSecret(ctx context.Context, secret string) ([]byte, error) {
 	h, err := s.store.FacilitatorHash(ctx)
 	if err != nil || len(h) == 0 {
-		return false, err
+		return nil, err
 	}
 	err = bcrypt.CompareHashAndPassword(h, []byte(secret))
 	if errors.Is(err, bcrypt.ErrMismatchedHashAndPassword) {
-		return false, nil
+		return nil, nil
 	}
-	return err == nil, err
+	if err != nil {
+		return nil, err
+	}
+	return h, nil
 }
 
-// startSession stores a new session and sets its cookie: HttpOnly,
-// SameSite=Strict, Secure when serving TLS, with an expiry.
-func (s *Server) startSession(w http.ResponseWriter, r *http.Request) error {
+// startSession spends the secret whose stored hash is secretHash and, if
+// it was still unspent, stores a new session and sets its cookie:
+// HttpOnly, SameSite=Strict, Secure when serving TLS, with an expiry. It
+// reports false when the secret was spent or replaced meanwhile.
+func (s *Server) startSession(w http.ResponseWriter, r *http.Request, secretHash []byte) (bool, error) {
 	token, hash, err := newToken()
 	if err != nil {
-		return err
+		return false, err
 	}
-	expires := s.now().Add(SessionLifetime)
-	if err := s.store.CreateSession(r.Context(), hash, expires); err != nil {
-		return err
+	now := s.now()
+	expires := now.Add(SessionLifetime)
+	ok, err := s.store.UseFacilitatorHash(r.Context(), secretHash, hash, expires, now)
+	if !ok || err != nil {
+		return false, err
 	}
 	http.SetCookie(w, &http.Cookie{
 		Name:     sessionCookie,
@@ -124,7 +162,7 @@ func (s *Server) startSession(w http.ResponseWriter, r *http.Request) error {
 		Secure:   s.opt.SecureCookies || r.TLS != nil,
 		SameSite: http.SameSiteStrictMode,
 	})
-	return nil
+	return true, nil
 }
 
 func (s *Server) endSession(w http.ResponseWriter, r *http.Request) {

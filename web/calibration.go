@@ -219,16 +219,17 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	reason := f.Text("reason", MaxLongText, reveal)
 	if f.OK() {
 		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)
-		if err != nil {
-			if !isInputError(err) {
-				s.fail(w, r, err)
-				return
-			}
+		switch {
+		case err == nil:
+		case isInputError(err):
 			f.Fail(err, nil)
+		case !s.notSaved(r, f, err):
+			s.fail(w, r, err)
+			return
 		}
 	}
 	if !f.OK() {
-		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{truthFor: q.ID, truth: f})
+		s.showCalibration(w, r, f.refusedStatus(), ws, calibrationForms{truthFor: q.ID, truth: f})
 		return
 	}
 	http.Redirect(w, r, calibrationPath(ws.ID)+"#seed-"+strconv.FormatInt(q.ID, 10), http.StatusSeeOther)
@@ -288,12 +289,14 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		}
 	}
 	if f.OK() {
-		if err := s.store.SetWeights(r.Context(), &wt); err != nil {
-			if !isInputError(err) {
-				s.fail(w, r, err)
-				return
-			}
+		err := s.store.SetWeights(r.Context(), &wt)
+		switch {
+		case err == nil:
+		case isInputError(err):
 			f.Fail(err, map[string]string{"weights": "scheme", "weights.by_expert": "scheme", "by_expert": "scheme"})
+		case !s.notSaved(r, f, err):
+			s.fail(w, r, err)
+			return
 		}
 	}
 	if !f.OK() {
@@ -301,7 +304,7 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		if f.Error("alpha") == "" {
 			af.Values.Set("alpha", f.Value("alpha"))
 		}
-		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{weights: f, alpha: af})
+		s.showCalibration(w, r, f.refusedStatus(), ws, calibrationForms{weights: f, alpha: af})
 		return
 	}
 	target := calibrationPath(ws.ID)

@@ -505,7 +505,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	a, fit, ok := readAnswer(sc.question, f)
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.
-	again := func(status int, closed string, fit *elicit.Fit) {
+	again := func(status int, closed, unsaved string, fit *elicit.Fit) {
 		if err := s.readOwn(r, &sc); err != nil {
 			s.fail(w, r, err)
 			return
@@ -524,20 +524,23 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		if closed != "" {
 			v.Open, v.Closed = false, closed
 		}
+		if unsaved != "" {
+			v.Form.Error = unsaved
+		}
 		s.renderQuestion(w, r, status, sc, v)
 	}
 	if sc.question.Frozen() {
 		// Whatever was sent: the answers were final at the reveal.
-		again(http.StatusConflict, frozenMessage, nil)
+		again(http.StatusConflict, frozenMessage, "", nil)
 		return
 	}
 	if !ok || !f.OK() {
-		again(http.StatusUnprocessableEntity, "", nil)
+		again(http.StatusUnprocessableEntity, "", "", nil)
 		return
 	}
 	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
 	if !sc.workshop.Open {
-		again(http.StatusConflict, closed, &fit)
+		again(http.StatusConflict, closed, "", &fit)
 		return
 	}
 	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
@@ -549,13 +552,20 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		if errors.Is(err, elicit.ErrRoundClosed) {
-			again(http.StatusConflict, closed, &fit)
+			again(http.StatusConflict, closed, "", &fit)
+			return
+		}
+		if serverFault(r, err) {
+			// Disk full or failing: the expert keeps what they typed and
+			// is told nothing was saved and what to do.
+			s.logFailure(r, "save", err)
+			again(http.StatusServiceUnavailable, "", notSavedForExpert, &fit)
 			return
 		}
 		if errors.Is(err, elicit.ErrAnswersFrozen) {
 			// The true value was revealed between the page and the save.
 			sc.question.Revealed = true
-			again(http.StatusConflict, frozenMessage, &fit)
+			again(http.StatusConflict, frozenMessage, "", &fit)
 			return
 		}
 		s.fail(w, r, err)
@@ -696,7 +706,7 @@ func applyErrors(af *answerForm, f *Form) {
 	}
 	af.ReasonError = f.Error("reason")
 	af.Error = f.Error("")
-	af.Invalid = !f.OK()
+	af.Invalid = !f.OK() && !f.unsaved // a server's failure is not the fields' fault
 }
 
 // problemSummary says, for the live preview, which field stops the fit.
@@ -725,7 +735,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	if err != nil {
 		// The page is still useful without the panel; it says so, and the
 		// cause is logged.
-		s.log.ErrorContext(r.Context(), "round feedback", "question", sc.question.ID, "err", err)
+		s.logFailure(r, "round feedback", err, "question", sc.question.ID)
 		return nil, nil, nil, true
 	}
 	if fb == nil {

@@ -145,6 +145,10 @@ func (s *Server) createWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.CreateWorkshop(r.Context(), &ws); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showWorkshopList(w, r, f.refusedStatus(), f)
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

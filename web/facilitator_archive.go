@@ -21,15 +21,18 @@ func (s *Server) archiveWorkshop(w http.ResponseWriter, r *http.Request) {
 	reason := f.Text("archive_reason", MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetArchived(r.Context(), ws.ID, action == "archive", reason); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, map[string]string{"action": "archive_reason"})
 			}
-			f.Fail(err, map[string]string{"action": "archive_reason"})
 		}
 	}
 	if !f.OK() {
-		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{ArchiveForm: f})
+		s.showOverview(w, r, f.refusedStatus(), ws, workshopView{ArchiveForm: f})
 		return
 	}
 	http.Redirect(w, r, workshopPath(ws.ID), http.StatusSeeOther)
@@ -78,15 +81,18 @@ func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	if f.OK() {
 		if err := s.store.DeleteWorkshop(r.Context(), ws.ID, reason); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, map[string]string{"action": "confirm"})
 			}
-			f.Fail(err, map[string]string{"action": "confirm"})
 		}
 	}
 	if !f.OK() {
-		s.showDelete(w, r, http.StatusUnprocessableEntity, ws, f)
+		s.showDelete(w, r, f.refusedStatus(), ws, f)
 		return
 	}
 	s.live.publish(ws.ID, "deleted")

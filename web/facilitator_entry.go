@@ -215,6 +215,9 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 			notice = "This question is retired, so it takes no answers; nothing was saved."
 		case errors.Is(err, elicit.ErrRevoked):
 			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
+		case s.notSaved(r, f, err):
+			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit))
+			return
 		default:
 			s.fail(w, r, err)
 			return

@@ -237,19 +237,15 @@ func (w eventWriter) weights(d eventDetail) string {
 	default:
 		return "—"
 	}
-	total := 0.0
-	for _, x := range d.ByExpert {
-		total += x
-	}
-	if total <= 0 {
-		return "—"
-	}
-	var parts []string
+	// The roster's experts first, in its order, then any others the set
+	// names; each with its share from elicit.Shares.
+	var ids []int64
+	var raw []float64
 	seen := map[string]bool{}
 	add := func(key string, id int64) {
 		if x, ok := d.ByExpert[key]; ok && !seen[key] {
 			seen[key] = true
-			parts = append(parts, w.expert(id)+" "+strconv.FormatFloat(x/total, 'f', 2, 64))
+			ids, raw = append(ids, id), append(raw, x)
 		}
 	}
 	for _, e := range w.experts {
@@ -259,6 +255,14 @@ func (w eventWriter) weights(d eventDetail) string {
 		if id, err := strconv.ParseInt(key, 10, 64); err == nil {
 			add(key, id)
 		}
+	}
+	shares := elicit.Shares(raw)
+	if shares == nil {
+		return "—"
+	}
+	parts := make([]string, len(ids))
+	for i, id := range ids {
+		parts[i] = w.expert(id) + " " + strconv.FormatFloat(shares[i], 'f', 2, 64)
 	}
 	scheme := "Weights set by the facilitator"
 	if d.Scheme == elicit.WeightsPerformance {

@@ -300,18 +300,21 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 	why := f.Text("withhold_reason", MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetReasonWithheld(r.Context(), revID, action == "withhold", why); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, map[string]string{"reason": "withhold_reason", "revision": "withhold_reason"})
 			}
-			f.Fail(err, map[string]string{"reason": "withhold_reason", "revision": "withhold_reason"})
 		}
 	}
 	if !f.OK() {
 		if msg := f.Error("withhold_reason"); msg != "" {
 			f.set("", "Withholding or showing a reason needs a reason of its own: "+msg+".")
 		}
-		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{withhold: f})
+		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{withhold: f})
 		return
 	}
 	s.reasonGen.Add(1)

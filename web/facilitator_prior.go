@@ -64,6 +64,10 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 			s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
 			return
 		}
+		if s.notSaved(r, f, err) {
+			s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{agree: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

@@ -89,6 +89,11 @@ func (s *Server) addQuestion(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AddQuestion(r.Context(), &q); err != nil {
+		if s.notSaved(r, f, err) {
+			s.renderPage(w, r, f.refusedStatus(), facilitatorMeta(ws, "Add a question", "overview"),
+				questionFormPage(questionForm{Workshop: ws, Form: f}))
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -220,15 +225,18 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 	reason := f.Text("reason", MaxLongText, true)
 	if f.OK() {
 		if err := s.store.EditQuestion(r.Context(), next, reason); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, questionAliases)
 			}
-			f.Fail(err, questionAliases)
 		}
 	}
 	if !f.OK() {
-		s.renderPage(w, r, http.StatusUnprocessableEntity, facilitatorMeta(ws, "Correct question "+strconv.Itoa(ed.Question.Position), "overview"),
+		s.renderPage(w, r, f.refusedStatus(), facilitatorMeta(ws, "Correct question "+strconv.Itoa(ed.Question.Position), "overview"),
 			questionFormPage(questionForm{Workshop: ws, Form: f, Edit: ed}))
 		return
 	}
@@ -251,15 +259,18 @@ func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
 	reason := f.Text("retire_reason", MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetQuestionRetired(r.Context(), q.ID, action == "retire", reason); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, nil)
 			}
-			f.Fail(err, nil)
 		}
 	}
 	if !f.OK() {
-		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{retire: f})
+		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{retire: f})
 		return
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID), http.StatusSeeOther)

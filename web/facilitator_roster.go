@@ -75,6 +75,10 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AddExpert(r.Context(), &e, hash); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{ExpertForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -167,6 +171,10 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.RevokeExpert(r.Context(), e.ID, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -196,6 +204,10 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.ReissueToken(r.Context(), e.ID, hash, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

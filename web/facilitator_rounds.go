@@ -35,6 +35,10 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.SetRound(r.Context(), ws.ID, round, opening, reason); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RoundForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}
@@ -48,15 +52,18 @@ func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws elicit.W
 	}
 	if f.OK() {
 		if err := s.store.ReopenRound(r.Context(), ws.ID, reason); err != nil {
-			if !isInputError(err) {
+			switch {
+			case s.notSaved(r, f, err):
+			case !isInputError(err):
 				s.fail(w, r, err)
 				return
+			default:
+				f.Fail(err, map[string]string{"action": "reopen_reason"})
 			}
-			f.Fail(err, map[string]string{"action": "reopen_reason"})
 		}
 	}
 	if !f.OK() {
-		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RoundForm: f})
+		s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RoundForm: f})
 		return
 	}
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)

@@ -173,12 +173,15 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel)
 	}
 	if err != nil {
-		if !isInputError(err) {
+		switch {
+		case s.notSaved(r, f, err):
+		case !isInputError(err):
 			s.fail(w, r, err)
 			return
+		default:
+			f.Fail(err, nil)
 		}
-		f.Fail(err, nil)
-		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
+		s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
 		return
 	}
 	s.sheets.drop(key)

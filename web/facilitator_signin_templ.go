@@ -9,10 +9,14 @@ package web
 import "github.com/a-h/templ"
 import templruntime "github.com/a-h/templ/runtime"
 
+import "strconv"
+
 // signInView is the sign-in form; Form keeps nothing typed (a secret is
 // never echoed back).
 type signInView struct {
 	Failed bool
+	// RetryAfter is set, in seconds, when sign-ins are throttled.
+	RetryAfter int
 }
 
 func signInPage(v signInView) templ.Component {
@@ -32,11 +36,11 @@ func signInPage(v signInView) templ.Component {
 		}
 		ctx = templ.InitializeContext(ctx)
 		ctx = templ.ClearChildren(ctx)
-		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 1, "<section class=\"signin\"><h1>Facilitator sign-in</h1><p>Parley printed a one-time sign-in address when it started. Opening that address signs you in. You can also paste the part after <code>#</code> here.</p><form method=\"post\" action=\"/signin\" id=\"signin-form\" class=\"form\"><div class=\"field\"><label for=\"secret\">Facilitator secret</label> <input type=\"password\" id=\"secret\" name=\"secret\" autocomplete=\"off\" required")
+		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 1, "<section class=\"signin\"><h1>Facilitator sign-in</h1><p>When Parley starts it prints a sign-in address. The address works once: opening it signs this browser in for 12 hours. You can also paste the part after <code>#</code> here.</p><p>For a new address (another browser, or once this one has been used), run this on the computer running Parley:</p><p class=\"command\"><code><span>parley</span> <span>facilitator-reset</span> <span>--db FILE</span> <span>--keep-signed-in</span></code></p><form method=\"post\" action=\"/signin\" id=\"signin-form\" class=\"form\"><div class=\"field\"><label for=\"secret\">Facilitator secret</label> <input type=\"password\" id=\"secret\" name=\"secret\" autocomplete=\"off\" required")
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if v.Failed {
+		if v.Failed || v.RetryAfter > 0 {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 2, " aria-invalid=\"true\" aria-describedby=\"err-secret\"")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
@@ -46,13 +50,44 @@ func signInPage(v signInView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if v.Failed {
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 4, "<span class=\"field-error\" id=\"err-secret\" role=\"alert\">secret: does not match. Lost it? Run <code>parley facilitator-reset --db FILE</code>.</span>")
+		if v.RetryAfter > 0 {
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 4, "<span class=\"field-error\" id=\"err-secret\" role=\"alert\">secret: too many sign-in attempts just now; nothing was checked. Try again in ")
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			var templ_7745c5c3_Var2 string
+			templ_7745c5c3_Var2, templ_7745c5c3_Err = templ.JoinStringErrs(strconv.Itoa(v.RetryAfter))
+			if templ_7745c5c3_Err != nil {
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_signin.templ`, Line: 31, Col: 166}
+			}
+			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var2))
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 5, " ")
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			var templ_7745c5c3_Var3 string
+			templ_7745c5c3_Var3, templ_7745c5c3_Err = templ.JoinStringErrs(plural(v.RetryAfter, "second", "seconds"))
+			if templ_7745c5c3_Err != nil {
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_signin.templ`, Line: 31, Col: 212}
+			}
+			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var3))
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 6, ".</span>")
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+		} else if v.Failed {
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 7, "<span class=\"field-error\" id=\"err-secret\" role=\"alert\">secret: does not match an unused sign-in address. Each address works once; the command above prints a new one.</span>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
 		}
-		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 5, "</div><button type=\"submit\" class=\"button\">Sign in</button></form><p class=\"hint\">Experts do not sign in: each uses the private link the facilitator gives them.</p></section>")
+		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 8, "</div><button type=\"submit\" class=\"button\">Sign in</button></form><p class=\"hint\">Experts do not sign in: each uses the private link the facilitator gives them.</p></section>")
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

@@ -47,13 +47,13 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 		var ie *elicit.InputError
 		if errors.As(err, &ie) {
 			f.Fail(err, map[string]string{"weights": "scheme"})
-		} else if err != nil {
+		} else if err != nil && !s.notSaved(r, f, err) {
 			s.fail(w, r, err)
 			return
 		}
 	}
 	if !f.OK() {
-		s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{weights: f})
+		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{weights: f})
 		return
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#pool", http.StatusSeeOther)

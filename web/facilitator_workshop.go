@@ -177,6 +177,10 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.UpdateWorkshop(r.Context(), upd); err != nil {
+		if s.notSaved(r, f, err) {
+			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{EditForm: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"net/http"
 	"net/url"
 	"regexp"
 	"strconv"
@@ -134,6 +135,9 @@ type FormErrors map[string]string
 type Form struct {
 	Values url.Values
 	Errors FormErrors
+	// unsaved is set when the form was fine but the server could not
+	// save it (notSaved): the message is the server's, not the fields'.
+	unsaved bool
 }
 
 // newForm wraps already-parsed values (see parseForm).
@@ -158,6 +162,19 @@ func (f *Form) Error(name string) string {
 		return ""
 	}
 	return f.Errors[name]
+}
+
+// fieldsRefused reports whether the form was refused for what was typed
+// in it (not for a fault of the server's).
+func (f *Form) fieldsRefused() bool { return !f.OK() && !f.unsaved }
+
+// refusedStatus is the status of a refused form: 422 for what was typed,
+// 503 when the server could not save it.
+func (f *Form) refusedStatus() int {
+	if f != nil && f.unsaved {
+		return http.StatusServiceUnavailable
+	}
+	return http.StatusUnprocessableEntity
 }
 
 // OK reports whether no field has an error.

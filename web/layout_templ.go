@@ -669,7 +669,7 @@ func formError(f *Form) templ.Component {
 				return templ_7745c5c3_Err
 			}
 		}
-		if !f.OK() {
+		if f.fieldsRefused() {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 48, "<p class=\"form-error-summary\">Nothing was saved. Correct the marked fields and send again.</p>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err

@@ -2,8 +2,10 @@ package web
 
 import (
 	"errors"
+	"fmt"
 	"net/http"
 	"regexp"
+	"sort"
 	"strings"
 )
 
@@ -102,6 +104,21 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 			return false
 		}
 		http.Error(w, "The form could not be read: "+err.Error(), http.StatusBadRequest)
+		return false
+	}
+	// Every field of every Parley form takes one value. A second one is
+	// refused rather than silently dropped (net/url keeps both and Get
+	// returns the first), since it comes only from a hand-made request.
+	names := make([]string, 0, len(r.PostForm))
+	for name, vs := range r.PostForm {
+		if len(vs) > 1 {
+			names = append(names, name)
+		}
+	}
+	if len(names) > 0 {
+		sort.Strings(names)
+		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d. Nothing was saved.",
+			clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
 		return false
 	}
 	return true

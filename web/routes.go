@@ -6,7 +6,6 @@ import (
 	"net/http"
 
 	"github.com/go-chi/chi/v5"
-	"github.com/go-chi/chi/v5/middleware"
 )
 
 // static holds every file in web/static: stylesheets, the chart styles
@@ -17,15 +16,15 @@ var static embed.FS
 
 // routes builds the whole URL space.
 //
-//	GET  /static/*            embedded assets
-//	GET  /signin              sign-in form (the one-time address carries the secret in #fragment)
-//	POST /signin              check the secret, start a session
+//	GET  /static/*            embedded assets, by name (no listings)
+//	GET  /signin              sign-in form (the sign-in address, good once, carries the secret in #fragment)
+//	POST /signin              check the secret (throttled), spend it, start a session
 //	POST /signout             end the session
 //	/e/{token}/...            an expert's private pages (expert.go), token resolved by requireExpert
 //	everything else           the facilitator's pages (facilitator*.go), behind requireFacilitator
 func (s *Server) routes() http.Handler {
 	r := chi.NewRouter()
-	r.Use(middleware.Recoverer, securityHeaders, limitBody, crossOrigin)
+	r.Use(s.recoverPanics, securityHeaders, limitBody, crossOrigin)
 	r.NotFound(s.notFound)
 	r.MethodNotAllowed(func(w http.ResponseWriter, r *http.Request) {
 		s.renderPage(w, r, http.StatusMethodNotAllowed, PageMeta{Title: "Not allowed"},
@@ -36,7 +35,7 @@ func (s *Server) routes() http.Handler {
 	if err != nil {
 		panic(err) // the embed pattern above guarantees the directory
 	}
-	r.Handle("/static/*", http.StripPrefix("/static/", http.FileServerFS(sub)))
+	r.Handle("/static/*", http.StripPrefix("/static/", s.staticFiles(sub)))
 
 	r.Get("/signin", s.signInForm)
 	r.Post("/signin", s.signIn)
@@ -55,4 +54,18 @@ func (s *Server) routes() http.Handler {
 		s.facilitatorRoutes(r)
 	})
 	return r
+}
+
+// staticFiles serves the embedded assets by name only: a folder, and so
+// /static/ itself, is not found rather than listed.
+func (s *Server) staticFiles(fsys fs.FS) http.Handler {
+	files := http.FileServerFS(fsys)
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		fi, err := fs.Stat(fsys, r.URL.Path)
+		if err != nil || fi.IsDir() {
+			s.notFound(w, r)
+			return
+		}
+		files.ServeHTTP(w, r)
+	})
 }

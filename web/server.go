@@ -8,9 +8,12 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"log/slog"
 	"net/http"
+	"regexp"
 	"runtime"
+	"runtime/debug"
 	"strings"
 	"sync"
 	"sync/atomic"
@@ -60,6 +63,8 @@ type Server struct {
 	// sheets holds answer sheets between their preview and their
 	// confirmation (facilitator_sheet.go).
 	sheets *kept[keptSheet]
+	// signIns limits what sign-in attempts may cost (signin_throttle.go).
+	signIns *signInThrottle
 }
 
 // New returns a Server over st.
@@ -68,7 +73,7 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
-		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(),
+		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now
@@ -105,7 +110,10 @@ func (s *Server) render(w http.ResponseWriter, r *http.Request, status int, c te
 		if held {
 			buf.Reset()
 		}
-		s.log.ErrorContext(r.Context(), "render", "path", r.URL.Path, "err", err)
+		s.logFailure(r, "render", err)
+		if r.Context().Err() != nil {
+			return // nobody is waiting for the page
+		}
 		w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 		w.WriteHeader(http.StatusInternalServerError)
 		_, _ = w.Write([]byte("Parley could not draw this page. The error is in the server log.\n"))
@@ -162,13 +170,56 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	case errors.Is(err, elicit.ErrRoundClosed):
 		s.renderPage(w, r, http.StatusConflict, PageMeta{Title: "Round closed"},
 			messagePage("Round closed", "The round is closed, so nothing was saved."))
-	case errors.Is(err, context.Canceled):
+	case errors.Is(err, context.Canceled) || r.Context().Err() != nil:
 		// The client went away; nothing to answer.
+		s.logFailure(r, "request", err)
 	default:
-		s.log.ErrorContext(r.Context(), "request", "method", r.Method, "path", r.URL.Path, "err", err)
+		s.logFailure(r, "request", err)
 		s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
 			messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 	}
+}
+
+// The sentences shown beside a form that was fine but could not be saved
+// because of the server: its disk is full or failing, or the database
+// became read-only. The typed values are kept on the form.
+const (
+	notSavedForExpert = "Nothing was saved: the server could not write your answer down just now. " +
+		"Your values are kept below. Try Save again in a minute; if it still fails, tell the facilitator."
+	notSavedForFacilitator = "Nothing was saved: the database could not be written (the disk may be full or failing; " +
+		"the server log has the cause). What you entered is kept below: free some space or fix the disk, then send the form again."
+)
+
+// serverFault reports whether err, from a save, is the server's own
+// failure (disk full, I/O error, a read-only database) rather than a
+// refusal of the domain's (not found, bad input, round closed) or a
+// client that went away.
+func serverFault(r *http.Request, err error) bool {
+	var ie *elicit.InputError
+	if err == nil || r.Context().Err() != nil || errors.Is(err, context.Canceled) || errors.As(err, &ie) {
+		return false
+	}
+	for _, refusal := range []error{elicit.ErrNotFound, elicit.ErrRoundClosed, elicit.ErrAnswersFrozen,
+		elicit.ErrRetired, elicit.ErrRevoked, elicit.ErrRoundStillOpen} {
+		if errors.Is(err, refusal) {
+			return false
+		}
+	}
+	return true
+}
+
+// notSaved takes a facilitator's form whose save failed with err. When
+// the failure is the server's it logs it, puts the sentence on the form
+// and reports true: the caller shows the form again, typed values kept,
+// with f.refusedStatus() (503). Otherwise it does nothing.
+func (s *Server) notSaved(r *http.Request, f *Form, err error) bool {
+	if !serverFault(r, err) {
+		return false
+	}
+	s.logFailure(r, "save", err)
+	f.set("", notSavedForFacilitator)
+	f.unsaved = true
+	return true
 }
 
 func detailSuffix(d string) string {
@@ -176,4 +227,70 @@ func detailSuffix(d string) string {
 		return ""
 	}
 	return " (" + d + ")"
+}
+
+// logFailure logs a request's failure at ERROR level, or at DEBUG when
+// the client abandoned the request (closed the tab, stopped loading, lost
+// the network): that is nothing wrong with the server, and hundreds of
+// such lines would bury the real errors.
+func (s *Server) logFailure(r *http.Request, msg string, err error, extra ...any) {
+	attrs := append(requestAttrs(r, err), extra...)
+	if r.Context().Err() != nil || errors.Is(err, context.Canceled) {
+		s.log.DebugContext(r.Context(), msg+": abandoned by the client", attrs...)
+		return
+	}
+	s.log.ErrorContext(r.Context(), msg, attrs...)
+}
+
+// recoverPanics turns a panic in a handler into the server-error page and
+// one log line, with the request described by requestAttrs, so no token
+// reaches the log this way either.
+func (s *Server) recoverPanics(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		defer func() {
+			v := recover()
+			if v == nil {
+				return
+			}
+			if v == http.ErrAbortHandler {
+				panic(v)
+			}
+			s.logFailure(r, "panic", fmt.Errorf("%v", v), "stack", string(debug.Stack()))
+			s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
+				messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
+		}()
+		next.ServeHTTP(w, r)
+	})
+}
+
+// requestAttrs describes a request and its error for the log without any
+// secret in it: an expert's token is replaced by "{token}" and the
+// expert's id is given instead, and anything else in the path long
+// enough to be a token is replaced too. Whoever reads the log cannot act
+// as an expert or as the facilitator.
+func requestAttrs(r *http.Request, err error) []any {
+	attrs := []any{"method", r.Method, "path", loggedPath(r.URL.Path)}
+	if e := expertFrom(r.Context()); e.ID != 0 {
+		attrs = append(attrs, "expert", e.ID)
+	}
+	if err != nil {
+		attrs = append(attrs, "err", tokenLike.ReplaceAllString(err.Error(), "{secret}"))
+	}
+	return attrs
+}
+
+// tokenLike matches a run of base64url characters as long as a token
+// (43); no other word in Parley's paths or messages is that long.
+var tokenLike = regexp.MustCompile(`[A-Za-z0-9_-]{40,}`)
+
+// loggedPath is path with the segment after /e/, the expert's token
+// however spelt, and anything token-like elsewhere replaced.
+func loggedPath(path string) string {
+	if rest, ok := strings.CutPrefix(path, "/e/"); ok {
+		path = "/e/{token}"
+		if i := strings.IndexByte(rest, '/'); i >= 0 {
+			path += rest[i:]
+		}
+	}
+	return tokenLike.ReplaceAllString(path, "{secret}")
 }

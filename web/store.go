@@ -80,10 +80,14 @@ type Store interface {
 	AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.AgreedPrior, error) // oldest first
 	Events(ctx context.Context, workshopID int64) ([]elicit.Event, error)             // oldest first
 
-	// Facilitator sign-in.
-	FacilitatorHash(ctx context.Context) ([]byte, error) // nil, nil when none set
-	SetFacilitatorHash(ctx context.Context, hash []byte) error
-	CreateSession(ctx context.Context, tokenHash []byte, expires time.Time) error
+	// Facilitator sign-in. The secret's hash is spent by its one sign-in.
+	FacilitatorHash(ctx context.Context) ([]byte, error)         // nil, nil when none set or it was spent
+	SetFacilitatorHash(ctx context.Context, hash []byte) error   // ends every session
+	IssueFacilitatorHash(ctx context.Context, hash []byte) error // leaves sessions open
+	// UseFacilitatorHash deletes hash if it is still the stored one and
+	// stores the session in the same transaction (purging expired ones);
+	// false when hash was spent or replaced.
+	UseFacilitatorHash(ctx context.Context, hash, sessionHash []byte, expires, now time.Time) (bool, error)
 	SessionValid(ctx context.Context, tokenHash []byte, now time.Time) (bool, error)
 	EndSession(ctx context.Context, tokenHash []byte) error // sign-out
 }

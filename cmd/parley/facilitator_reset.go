@@ -9,14 +9,17 @@ import (
 )
 
 func init() {
-	command("facilitator-reset", "issue a new facilitator secret and print its sign-in address (--db, --addr)", runFacilitatorReset)
+	command("facilitator-reset", "issue a new one-time facilitator sign-in address; signs every browser out unless --keep-signed-in (--db, --addr)", runFacilitatorReset)
 }
 
-// runFacilitatorReset replaces the facilitator secret; open sessions end.
+// runFacilitatorReset replaces the facilitator secret: the new sign-in
+// address works once, and any earlier unused one stops working. Open
+// sessions end, unless --keep-signed-in (for signing in another browser).
 func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("facilitator-reset", stderr)
 	dbPath := fs.String("db", "", "database `file`")
 	addr := fs.String("addr", "127.0.0.1:8080", "`host:port` the server listens on, for the printed address")
+	keep := fs.Bool("keep-signed-in", false, "leave browsers already signed in signed in (default: sign them all out)")
 	if err := fs.Parse(args); err != nil {
 		return exitBadInput
 	}
@@ -25,11 +28,15 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 		return fail(stderr, "facilitator-reset", err)
 	}
 	defer db.Close()
-	secret, err := web.ResetFacilitatorSecret(context.Background(), db)
+	issue, ended := web.ResetFacilitatorSecret, "browsers signed in before are signed out"
+	if *keep {
+		issue, ended = web.IssueFacilitatorSecret, "browsers already signed in stay signed in"
+	}
+	secret, err := issue(context.Background(), db)
 	if err != nil {
 		return fail(stderr, "facilitator-reset", err)
 	}
-	fmt.Fprintln(stdout, "parley: new facilitator secret set; earlier sign-ins are ended.")
-	fmt.Fprintf(stdout, "parley: facilitator sign-in (shown once, keep it private): http://%s%s\n", *addr, web.SignInPath(secret))
+	fmt.Fprintf(stdout, "parley: new facilitator secret set; any earlier sign-in address stops working, and %s.\n", ended)
+	fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): http://%s%s\n", *addr, web.SignInPath(secret))
 	return exitOK
 }

@@ -2,9 +2,12 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
+	"path/filepath"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/store"
@@ -42,15 +45,61 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
-	db, err := store.Open(*dbPath)
-	if err != nil {
-		return fail(stderr, "import", err)
-	}
-	defer db.Close()
-	id, err := db.Import(context.Background(), rec)
+	id, err := importInto(*dbPath, rec)
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
 	fmt.Fprintln(stdout, id)
 	return exitOK
+}
+
+// importInto adds rec to the database at path. An existing database is
+// changed in one transaction, so a failed import leaves it as it was. A
+// new one is built under a temporary name in the same folder and renamed
+// into place only when whole and closed: a failed import (a full disk, an
+// I/O error) removes it with its journal files and leaves nothing behind.
+func importInto(path string, rec elicit.Record) (int64, error) {
+	if _, err := os.Stat(path); err == nil {
+		db, err := store.Open(path)
+		if err != nil {
+			return 0, err
+		}
+		id, err := db.Import(context.Background(), rec)
+		return id, errors.Join(err, db.Close())
+	} else if !errors.Is(err, fs.ErrNotExist) {
+		return 0, err
+	}
+	tmp, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".importing-*")
+	if err != nil {
+		return 0, err
+	}
+	tmp.Close()
+	remove := func() {
+		for _, suffix := range []string{"", "-wal", "-shm", "-journal"} {
+			os.Remove(tmp.Name() + suffix)
+		}
+	}
+	db, err := store.Open(tmp.Name())
+	if err != nil {
+		remove()
+		return 0, err
+	}
+	id, err := db.Import(context.Background(), rec)
+	// Closing the only connection checkpoints the journal into the file
+	// and deletes it, so the renamed file is the whole database.
+	if err = errors.Join(err, db.Close()); err == nil {
+		if _, serr := os.Stat(tmp.Name() + "-wal"); serr == nil {
+			err = fmt.Errorf("import: the new database's journal %s-wal was not folded into it", tmp.Name())
+		}
+	}
+	if err == nil {
+		// A link, unlike a rename, never replaces a file that appeared
+		// at path meanwhile.
+		err = os.Link(tmp.Name(), path)
+	}
+	remove()
+	if err != nil {
+		return 0, err
+	}
+	return id, nil
 }

@@ -66,12 +66,26 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("db", "%v", err)
 	}
+	// Before anything is opened: the file must be writable (or the first
+	// save would be the first to find out), and no other server may be
+	// serving it (each would serve rows the other changed).
+	if err := store.CheckWritable(dbPath); err != nil {
+		return err
+	}
+	claim, err := store.ClaimServing(dbPath)
+	if err != nil {
+		return err
+	}
+	defer claim.Release()
 	db, err := store.Open(dbPath)
 	if err != nil {
 		return err
 	}
 	defer db.Close()
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
+	if _, err := db.PurgeSessions(ctx, time.Now()); err != nil {
+		return err
+	}
 
 	// The secret exists before anything binds, so a non-loopback address is
 	// never served without one.
@@ -83,7 +97,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		return fmt.Errorf("no facilitator secret is set, so Parley will not listen (%v)", err)
 	}
 
-	ln, err := net.Listen("tcp", c.addr)
+	ln, err := net.Listen(listenNetwork(host), c.addr)
 	if err != nil {
 		return err
 	}
@@ -97,7 +111,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 	if !isLoopback(host) {
 		fmt.Fprintf(stderr, "parley: WARNING: listening on %s, reachable from other machines on the network. "+
-			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", ln.Addr())
+			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", listening(ln.Addr()))
 		if ip := net.ParseIP(host); c.baseURL == "" && (host == "" || (ip != nil && ip.IsUnspecified())) {
 			fmt.Fprintln(stderr, "parley: links are printed for 127.0.0.1; pass --base-url http://THIS-MACHINE'S-ADDRESS:PORT so experts' links work on their own devices.")
 		}
@@ -127,9 +141,10 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 	fmt.Fprintf(stdout, "parley: serving at %s/\n", base)
 	if secret != "" {
-		fmt.Fprintf(stdout, "parley: facilitator sign-in (shown once, keep it private): %s%s\n", base, web.SignInPath(secret))
+		fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): %s%s\n", base, web.SignInPath(secret))
 	} else {
-		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin (lost the secret? parley facilitator-reset --db %s)\n", base, dbPath)
+		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin: the sign-in address printed earlier is still unused and works once "+
+			"(lost it? parley facilitator-reset --db %s --keep-signed-in)\n", base, dbPath)
 	}
 
 	hs := &http.Server{
@@ -164,6 +179,38 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		err = e
 	}
 	return err
+}
+
+// listenNetwork is the network to listen on for host: an IPv4 address,
+// 0.0.0.0 included, means IPv4 only ("tcp4"; plain "tcp" would make
+// 0.0.0.0 listen on every IPv6 address too), an IPv6 address IPv6 only;
+// a name or no host leaves the choice to the system.
+func listenNetwork(host string) string {
+	ip := net.ParseIP(host)
+	switch {
+	case ip == nil:
+		return "tcp"
+	case ip.To4() != nil:
+		return "tcp4"
+	}
+	return "tcp6"
+}
+
+// listening describes a listener's address for the start-up warning,
+// saying in words what a wildcard address covers.
+func listening(a net.Addr) string {
+	host, _, err := net.SplitHostPort(a.String())
+	if err != nil {
+		return a.String()
+	}
+	ip := net.ParseIP(host)
+	switch {
+	case ip == nil || !ip.IsUnspecified():
+		return a.String()
+	case ip.To4() != nil:
+		return a.String() + " (every IPv4 address of this machine)"
+	}
+	return a.String() + " (every IPv6 address of this machine, and IPv4 where the system maps it)"
 }
 
 // isLoopback reports whether host names only this machine.

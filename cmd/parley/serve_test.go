@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"io"
+	"net"
 	"net/http"
 	"net/http/cookiejar"
 	"net/url"
@@ -72,7 +73,7 @@ func startServe(t *testing.T, c serveConfig) (base string, stdout, stderr *syncB
 	return base, stdout, stderr, stop
 }
 
-var signInLine = regexp.MustCompile(`facilitator sign-in \(shown once, keep it private\): (http://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
+var signInLine = regexp.MustCompile(`facilitator sign-in address \(works once; keep it private\): (http://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
 
 func TestServeFirstStartSignInDemoAndShutdown(t *testing.T) {
 	dbPath := filepath.Join(t.TempDir(), "parley.db")
@@ -114,12 +115,30 @@ func TestServeFirstStartSignInDemoAndShutdown(t *testing.T) {
 		t.Error("server still answers after shutdown")
 	}
 
-	// Second start: no new secret, no second demo.
-	_, out2, _, stop2 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
-	if signInLine.MatchString(out2.String()) || strings.Contains(out2.String(), "/e/") {
-		t.Errorf("second start printed a new secret or demo links:\n%s", out2)
+	// Second start: the address was used, so a new one is printed, and
+	// the browser signed in before stays signed in; no second demo.
+	base2, out2, _, stop2 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	m2 := signInLine.FindStringSubmatch(out2.String())
+	if m2 == nil || m2[2] == m[2] || strings.Contains(out2.String(), "/e/") {
+		t.Errorf("second start after the address was used: want a new address and no demo links:\n%s", out2)
+	}
+	// The session cookie was set for 127.0.0.1; the new server has
+	// another port, and cookies do not depend on the port.
+	if res, err := c.Get(base2 + "/"); err != nil || res.StatusCode != http.StatusOK || res.Request.URL.Path != "/" {
+		t.Errorf("the session of the first start does not carry over: %v %v", res, err)
+	} else {
+		res.Body.Close()
 	}
 	if err := stop2(); err != nil {
+		t.Fatal(err)
+	}
+	// Third start: the second address is unused, so none is printed; the
+	// line says the earlier one still works.
+	_, out3, _, stop3 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	if signInLine.MatchString(out3.String()) || !strings.Contains(out3.String(), "printed earlier is still unused and works once") {
+		t.Errorf("third start with an unused address:\n%s", out3)
+	}
+	if err := stop3(); err != nil {
 		t.Fatal(err)
 	}
 	db, err := store.Open(dbPath)
@@ -152,10 +171,24 @@ func TestServeNoDemo(t *testing.T) {
 	}
 }
 
+// TestServeWarnsOffLoopback: --addr 0.0.0.0 listens on IPv4 only, and
+// the warning names the address really listened on (issue 13, item 9).
 func TestServeWarnsOffLoopback(t *testing.T) {
-	_, _, errOut, stop := startServe(t, serveConfig{addr: "0.0.0.0:0", db: filepath.Join(t.TempDir(), "p.db"), noDemo: true})
-	if !strings.Contains(errOut.String(), "WARNING") {
-		t.Errorf("no warning for a non-loopback address: %q", errOut)
+	base, _, errOut, stop := startServe(t, serveConfig{addr: "0.0.0.0:0", db: filepath.Join(t.TempDir(), "p.db"), noDemo: true})
+	warning := errOut.String()
+	_, port, _ := net.SplitHostPort(strings.TrimPrefix(base, "http://"))
+	if !strings.Contains(warning, "WARNING: listening on 0.0.0.0:"+port+" (every IPv4 address of this machine)") || strings.Contains(warning, "[::]") {
+		t.Errorf("the warning does not name 0.0.0.0:%s: %q", port, warning)
+	}
+	if c, err := net.DialTimeout("tcp4", "127.0.0.1:"+port, 5*time.Second); err != nil {
+		t.Errorf("IPv4 loopback: %v", err)
+	} else {
+		c.Close()
+	}
+	// [::1] is on this machine (the test's only traffic stays on it).
+	if c, err := net.DialTimeout("tcp6", "[::1]:"+port, 5*time.Second); err == nil {
+		c.Close()
+		t.Errorf("--addr 0.0.0.0 also answers on IPv6 [::1]:%s", port)
 	}
 	if err := stop(); err != nil {
 		t.Fatal(err)
@@ -199,6 +232,25 @@ func TestFacilitatorReset(t *testing.T) {
 	defer db.Close()
 	if h, _ := db.FacilitatorHash(ctx); string(h) == "old hash" || len(h) == 0 {
 		t.Fatalf("hash not replaced: %q", h)
+	}
+	// --keep-signed-in leaves a signed-in browser signed in; without it
+	// every session ends.
+	check(t, db.CreateSession(ctx, []byte("open session"), time.Now().Add(time.Hour)))
+	for _, c := range []struct {
+		args []string
+		kept bool
+		says string
+	}{
+		{[]string{"--db", dbPath, "--keep-signed-in"}, true, "browsers already signed in stay signed in"},
+		{[]string{"--db", dbPath}, false, "browsers signed in before are signed out"},
+	} {
+		out.Reset()
+		if code := runFacilitatorReset(c.args, nil, &out, &errOut); code != exitOK || !strings.Contains(out.String(), c.says) {
+			t.Fatalf("reset %v: exit %d: %s", c.args, code, out.String())
+		}
+		if ok, _ := db.SessionValid(ctx, []byte("open session"), time.Now()); ok != c.kept {
+			t.Errorf("reset %v: session still valid = %v, want %v", c.args, ok, c.kept)
+		}
 	}
 	if code := runFacilitatorReset([]string{"--db", filepath.Join(t.TempDir(), "missing.db")}, nil, &out, &errOut); code != exitBadInput {
 		t.Fatalf("missing database: exit %d", code)

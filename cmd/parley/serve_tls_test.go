@@ -60,7 +60,7 @@ func selfSigned(t *testing.T, dir string) (certPath, keyPath string, pool *x509.
 	return certPath, keyPath, pool
 }
 
-var tlsSignInLine = regexp.MustCompile(`facilitator sign-in \(shown once, keep it private\): (https://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
+var tlsSignInLine = regexp.MustCompile(`facilitator sign-in address \(works once; keep it private\): (https://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
 
 // With --tls-cert/--tls-key the server speaks only TLS, prints https
 // links, and the facilitator's session cookie is marked Secure.

@@ -1,0 +1,171 @@
+package store
+
+import (
+	"errors"
+	"fmt"
+	"io/fs"
+	"os"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"syscall"
+)
+
+// One server per database: two servers on one file would each remember
+// rows the other changes (cache.go), so one would show a revoked expert
+// their page or a closed round as open. `parley serve` claims the file
+// with ClaimServing, which takes an exclusive flock(2) on PATH.lock beside
+// it and writes its process id there. The kernel drops the lock when the
+// process ends, however it ends, so a crash leaves no stale claim. Other
+// commands (export, backup, import, facilitator-reset) do not claim the
+// file: they read, or only add rows and secrets, which the server does
+// not remember.
+
+// ServingClaim is a server's hold on its database file.
+type ServingClaim struct {
+	f *os.File
+}
+
+// HeldError says the database is already served by another process.
+type HeldError struct {
+	Database string // the database file
+	LockFile string
+	PID      int // the holder's process id, 0 when unknown
+}
+
+func (e *HeldError) Error() string {
+	who := "another process"
+	if e.PID > 0 {
+		who = "process " + strconv.Itoa(e.PID)
+	}
+	return fmt.Sprintf("%s is already being served by another Parley server (%s holds %s); "+
+		"stop that server first, or serve another file with --db", e.Database, who, e.LockFile)
+}
+
+// LockFile is the lock file beside the database at path.
+func LockFile(path string) string { return path + ".lock" }
+
+// ClaimServing claims the database at path for this process until
+// Release (or the process ends). When another process holds it, the
+// error is a *HeldError naming that process.
+func ClaimServing(path string) (*ServingClaim, error) {
+	lock := LockFile(path)
+	f, err := os.OpenFile(lock, os.O_RDWR|os.O_CREATE, 0o644)
+	if err != nil {
+		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
+	}
+	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
+		defer f.Close()
+		if errors.Is(err, syscall.EWOULDBLOCK) {
+			return nil, &HeldError{Database: path, LockFile: lock, PID: readPID(f)}
+		}
+		return nil, fmt.Errorf("store: lock %s: %w", lock, err)
+	}
+	if err := f.Truncate(0); err == nil {
+		_, err = f.WriteAt([]byte(strconv.Itoa(os.Getpid())+"\n"), 0)
+	}
+	if err != nil {
+		f.Close()
+		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
+	}
+	return &ServingClaim{f: f}, nil
+}
+
+// readPID reads the holder's process id from the lock file; 0 when it
+// has not written it yet.
+func readPID(f *os.File) int {
+	b := make([]byte, 32)
+	n, _ := f.ReadAt(b, 0)
+	pid, err := strconv.Atoi(strings.TrimSpace(string(b[:n])))
+	if err != nil || pid <= 0 {
+		return 0
+	}
+	return pid
+}
+
+// Release gives the claim up. The lock file stays: removing it would let
+// a server that opened it a moment before lock a file no longer there
+// while a third locks a new one.
+func (c *ServingClaim) Release() error {
+	if c == nil || c.f == nil {
+		return nil
+	}
+	err := c.f.Close() // closing the descriptor drops the flock
+	c.f = nil
+	return err
+}
+
+// NotWritableError says why Parley cannot write the database at Path.
+type NotWritableError struct {
+	Path    string
+	Problem string // what is wrong, in words
+	Err     error  // the system's error, when there is one
+}
+
+func (e *NotWritableError) Error() string { return "cannot write " + e.Path + ": " + e.Problem }
+
+func (e *NotWritableError) Unwrap() error { return e.Err }
+
+// CheckWritable checks, before a server starts, that the database at
+// path can be written: its folder exists, new files can be made there
+// (SQLite keeps its journal, PATH-wal and PATH-shm, beside the database),
+// and the file and its journal files, where they exist, open for writing.
+// A *NotWritableError says exactly what is wrong: a missing folder, a
+// read-only filesystem, a read-only file or folder, or a full disk.
+// Without it a read-only database went unnoticed until the first save.
+func CheckWritable(path string) error {
+	dir := filepath.Dir(path)
+	fi, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return &NotWritableError{Path: path, Err: err,
+			Problem: "the folder " + dir + " does not exist; create it, or give --db a file in an existing folder"}
+	case err != nil:
+		return &NotWritableError{Path: path, Err: err, Problem: "the folder " + dir + " cannot be read: " + err.Error()}
+	case !fi.IsDir():
+		return &NotWritableError{Path: path, Problem: dir + " is not a folder"}
+	}
+	probe, err := os.CreateTemp(dir, ".parley-write-check-*")
+	if err != nil {
+		return &NotWritableError{Path: path, Err: err, Problem: "the folder " + dir + " (where SQLite keeps the database's journal, " +
+			filepath.Base(path) + "-wal and -shm) " + whyNot(err, dir)}
+	}
+	probe.Close()
+	os.Remove(probe.Name())
+	for _, name := range []string{path, path + "-wal", path + "-shm"} {
+		f, err := os.OpenFile(name, os.O_RDWR, 0)
+		if errors.Is(err, fs.ErrNotExist) {
+			continue
+		}
+		if err != nil {
+			what := "the file"
+			if name != path {
+				what = "its journal file " + name
+			}
+			return &NotWritableError{Path: path, Err: err, Problem: what + " " + whyNot(err, name)}
+		}
+		f.Close()
+	}
+	return nil
+}
+
+// whyNot says in words why name cannot be written.
+func whyNot(err error, name string) string {
+	switch {
+	case errors.Is(err, syscall.EROFS):
+		return "is on a read-only filesystem; copy the database to a writable disk (parley backup --out), or remount the disk writable"
+	case errors.Is(err, syscall.ENOSPC), errors.Is(err, syscall.EDQUOT):
+		return "is on a full disk; free some space"
+	case errors.Is(err, fs.ErrPermission):
+		mode := ""
+		if fi, err := os.Stat(name); err == nil {
+			mode = fi.Mode().String() + ", "
+			if st, ok := fi.Sys().(*syscall.Stat_t); ok {
+				mode += "owner uid " + strconv.Itoa(int(st.Uid)) + ", "
+			}
+		}
+		return "is read-only for this user (" + mode + "Parley runs as uid " + strconv.Itoa(os.Geteuid()) +
+			"); give write permission (chmod u+w), or serve a copy"
+	}
+	return "cannot be written: " + err.Error()
+}

@@ -1,0 +1,209 @@
+package systemtest
+
+import (
+	"bytes"
+	"context"
+	"encoding/json"
+	"errors"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"strconv"
+	"strings"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/store"
+)
+
+// runParley runs the built binary with args (as user uid when uid >= 0)
+// and returns its exit status, stdout and stderr. It is killed if it
+// has not ended within limit.
+func runParley(t *testing.T, uid int, limit time.Duration, args ...string) (int, string, string) {
+	t.Helper()
+	ctx, cancel := context.WithTimeout(context.Background(), limit)
+	defer cancel()
+	cmd := exec.CommandContext(ctx, parleyBinary(t), args...)
+	var out, errOut bytes.Buffer
+	cmd.Stdout, cmd.Stderr = &out, &errOut
+	if uid >= 0 {
+		cmd.SysProcAttr = &syscall.SysProcAttr{Credential: &syscall.Credential{Uid: uint32(uid), Gid: uint32(uid)}}
+	}
+	err := cmd.Run()
+	if ctx.Err() != nil {
+		t.Fatalf("parley %v did not end within %v\nstdout:\n%s\nstderr:\n%s", args, limit, out.String(), errOut.String())
+	}
+	var ee *exec.ExitError
+	switch {
+	case err == nil:
+		return 0, out.String(), errOut.String()
+	case errors.As(err, &ee):
+		return ee.ExitCode(), out.String(), errOut.String()
+	}
+	t.Fatalf("parley %v: %v", args, err)
+	return 0, "", ""
+}
+
+// TestOneServerPerDatabase: while one server runs on a database file, a
+// second `parley serve` on the same file exits at once, status 1, naming
+// the file and the process serving it; `export` and `backup` still work
+// beside the running server; and a server killed with SIGKILL leaves no
+// stale claim (issue 13, item 3).
+func TestOneServerPerDatabase(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	ws := seedWorkshop(t, dbPath, 2, 1)
+	first := startServer(t, parleyBinary(t), dbPath, freeAddr(t))
+	defer first.kill()
+
+	start := time.Now()
+	code, _, stderr := runParley(t, -1, 20*time.Second, "serve", "--addr", freeAddr(t), "--db", dbPath, "--no-demo")
+	took := time.Since(start)
+	pid := strconv.Itoa(first.cmd.Process.Pid)
+	if code != 1 || !strings.Contains(stderr, dbPath+" is already being served by another Parley server (process "+pid+" holds "+dbPath+".lock)") {
+		t.Errorf("second serve: exit %d after %v, stderr:\n%s", code, took, stderr)
+	}
+	t.Logf("the second server refused in %v: %s", took.Round(time.Millisecond), strings.TrimSpace(stderr))
+
+	code, stdout, stderr := runParley(t, -1, 60*time.Second, "export", "--db", dbPath, "--workshop", strconv.FormatInt(ws.workshopID, 10), "--format", "json")
+	var rec struct {
+		Format int `json:"parley_record"`
+	}
+	if code != 0 || json.Unmarshal([]byte(stdout), &rec) != nil || rec.Format != 1 {
+		t.Errorf("export while the server runs: exit %d, stderr %s", code, stderr)
+	}
+	copyPath := filepath.Join(t.TempDir(), "copy.db")
+	if code, _, stderr := runParley(t, -1, 60*time.Second, "backup", "--db", dbPath, "--out", copyPath); code != 0 {
+		t.Errorf("backup while the server runs: exit %d, stderr %s", code, stderr)
+	}
+	if err := first.waitReady(5 * time.Second); err != nil {
+		t.Errorf("the first server stopped answering: %v", err)
+	}
+
+	first.kill()
+	second := startServer(t, parleyBinary(t), dbPath, freeAddr(t))
+	second.kill()
+}
+
+// unprivileged is the user the read-only checks run as when the tests
+// run as root, for whom no file is read-only: "nobody".
+const unprivileged = 65534
+
+// TestStartupSaysWhyTheDatabaseCannotBeWritten: `parley serve` checks at
+// start that it can write the database and its folder, and says exactly
+// what is wrong, with exit status 1: a missing folder, a read-only file,
+// a read-only folder, a read-only filesystem (issue 13, item 4).
+func TestStartupSaysWhyTheDatabaseCannotBeWritten(t *testing.T) {
+	uid := -1
+	if os.Geteuid() == 0 {
+		uid = unprivileged
+	}
+	// A folder the unprivileged user can reach, with the binary in one too.
+	if uid >= 0 {
+		if err := os.Chmod(filepath.Dir(parleyBinary(t)), 0o755); err != nil {
+			t.Fatal(err)
+		}
+	}
+	base, err := os.MkdirTemp("", "parley-readonly-")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { os.RemoveAll(base) })
+	if err := os.Chmod(base, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	// newDB makes a folder with a database in it, both belonging to the
+	// user the check runs as.
+	newDB := func(name string) (dir, db string) {
+		dir = filepath.Join(base, name)
+		if err := os.Mkdir(dir, 0o755); err != nil {
+			t.Fatal(err)
+		}
+		db = filepath.Join(dir, "parley.db")
+		seedWorkshop(t, db, 1, 1)
+		if uid >= 0 {
+			for _, p := range []string{dir, db} {
+				if err := os.Chown(p, uid, uid); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+		return dir, db
+	}
+	serve := func(db string) (int, string) {
+		code, _, stderr := runParley(t, uid, 20*time.Second, "serve", "--addr", freeAddr(t), "--db", db, "--no-demo")
+		t.Logf("serve --db %s: exit %d: %s", db, code, strings.TrimSpace(stderr))
+		return code, strings.TrimSpace(stderr)
+	}
+
+	missing := filepath.Join(base, "no-such-folder", "parley.db")
+	if code, msg := serve(missing); code != 1 || msg != "parley serve: cannot write "+missing+": the folder "+filepath.Dir(missing)+
+		" does not exist; create it, or give --db a file in an existing folder" {
+		t.Errorf("missing folder: exit %d, %q", code, msg)
+	}
+
+	_, roFile := newDB("read-only-file")
+	if err := os.Chmod(roFile, 0o444); err != nil {
+		t.Fatal(err)
+	}
+	if code, msg := serve(roFile); code != 1 || !strings.Contains(msg, "cannot write "+roFile+": the file is read-only for this user (-r--r--r--") {
+		t.Errorf("read-only file: exit %d, %q", code, msg)
+	}
+
+	roDir, roDirDB := newDB("read-only-folder")
+	if err := os.Chmod(roDir, 0o555); err != nil {
+		t.Fatal(err)
+	}
+	if code, msg := serve(roDirDB); code != 1 || !strings.Contains(msg, "cannot write "+roDirDB+": the folder "+roDir+
+		" (where SQLite keeps the database's journal, parley.db-wal and -shm) is read-only for this user (dr-xr-xr-x") {
+		t.Errorf("read-only folder: exit %d, %q", code, msg)
+	}
+
+	// A read-only filesystem: a small tmpfs, written, then remounted
+	// read-only. Root may write any file, but not on a read-only mount.
+	mnt := mountTmpfs(t, "1m")
+	if mnt == "" {
+		return
+	}
+	roFS := filepath.Join(mnt, "parley.db")
+	seedWorkshop(t, roFS, 1, 1)
+	if out, err := exec.Command("mount", "-o", "remount,ro", mnt).CombinedOutput(); err != nil {
+		t.Fatalf("remount %s read-only: %v %s", mnt, err, out)
+	}
+	if code, msg := serve(roFS); code != 1 || !strings.Contains(msg, "cannot write "+roFS+": the folder "+mnt+" (where SQLite keeps the database's journal, parley.db-wal and -shm) is on a read-only filesystem") {
+		t.Errorf("read-only filesystem: exit %d, %q", code, msg)
+	}
+	if _, err := os.Stat(roFS); err != nil {
+		t.Fatalf("the database on the read-only filesystem: %v", err)
+	}
+	if _, err := os.Stat(store.LockFile(roFile)); err == nil {
+		t.Error("a refused start left a lock file")
+	}
+}
+
+// mountTmpfs mounts a tmpfs of the given size (as mount's size= option)
+// on a new temporary folder, unmounted when the test ends, and returns
+// the folder. Where mounting is not allowed (not root, or a sandbox
+// without CAP_SYS_ADMIN) it says so loudly in the test log and returns
+// "": the rest of that test is skipped.
+func mountTmpfs(t *testing.T, size string) string {
+	t.Helper()
+	dir, err := os.MkdirTemp("", "parley-tmpfs-")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if out, err := exec.Command("mount", "-t", "tmpfs", "-o", "size="+size+",mode=0755", "tmpfs", dir).CombinedOutput(); err != nil {
+		os.Remove(dir)
+		t.Logf("SKIPPING THE PART OF %s THAT NEEDS A SMALL FILESYSTEM: `mount -t tmpfs` is not allowed here (%v: %s). "+
+			"Run the tests as root on a machine that allows mounting (CI does) to check it.", t.Name(), err, strings.TrimSpace(string(out)))
+		return ""
+	}
+	t.Cleanup(func() {
+		if out, err := exec.Command("umount", dir).CombinedOutput(); err != nil {
+			t.Errorf("umount %s: %v %s", dir, err, out)
+			return
+		}
+		os.Remove(dir)
+	})
+	return dir
+}

@@ -1,0 +1,93 @@
+package web
+
+import (
+	"context"
+	"encoding/json"
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// TestHugeWeightsShowTheirShares: four custom weights of 1e308 each are
+// four equal shares, 25% each, in the facilitator's panel, the decision
+// log and the export. Summing the raw weights would overflow to +Inf and
+// show every share as 0 (issue 13, item 8); elicit.Shares divides by the
+// largest weight first. Expected value: 1e308 / (4 × 1e308) = 1/4 by
+// hand.
+func TestHugeWeightsShowTheirShares(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	if len(es) != 4 {
+		t.Fatalf("the demo has %d experts, want 4", len(es))
+	}
+	// A question every demo expert answered.
+	revs, err := h.db.Revisions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var q elicit.Question
+	for _, cand := range qs {
+		who := map[int64]bool{}
+		for _, rv := range revs {
+			if rv.QuestionID == cand.ID {
+				who[rv.ExpertID] = true
+			}
+		}
+		if len(who) == 4 {
+			q = cand
+			break
+		}
+	}
+	if q.ID == 0 {
+		t.Fatal("no demo question has answers from all four experts")
+	}
+	qp := questionPath(ws.ID, q.ID)
+	form := url.Values{"scheme": {"custom"}, "reason": {"Weights at the edge of float64 (invented)"}}
+	for _, e := range es {
+		form.Set(weightField(e.ID), "1e308")
+	}
+	if res, body := h.post(qp+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+
+	_, panel := h.get(qp)
+	if n := strings.Count(panel, `<td class="num">25%</td>`); n != 4 {
+		t.Errorf("the panel shows %d shares of 25%%, want 4", n)
+	}
+	if strings.Contains(panel, `<td class="num">0%</td>`) {
+		t.Error("the panel shows a share of 0%")
+	}
+
+	_, log := h.get(workshopPath(ws.ID) + "/log")
+	want := "as shares of the pool: "
+	for i, e := range es {
+		if i > 0 {
+			want += ", "
+		}
+		want += htmlEscape(e.Name) + " 0.25"
+	}
+	if !strings.Contains(log, want) {
+		t.Errorf("the decision log lacks %q", want)
+	}
+
+	_, body := h.get(workshopPath(ws.ID) + "/export.json")
+	var rec elicit.Record
+	if err := json.Unmarshal([]byte(body), &rec); err != nil {
+		t.Fatal(err)
+	}
+	for _, rq := range rec.Questions {
+		if rq.ID != q.ID {
+			continue
+		}
+		if rq.Pool == nil || len(rq.Pool.Weights) != 4 {
+			t.Fatalf("export: pool %+v", rq.Pool)
+		}
+		for _, w := range rq.Pool.Weights {
+			if w.Weight != 0.25 {
+				t.Errorf("export: expert %d has weight %v, want 0.25", w.ExpertID, w.Weight)
+			}
+		}
+	}
+}

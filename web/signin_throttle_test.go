@@ -1,0 +1,158 @@
+package web
+
+import (
+	"context"
+	"io"
+	"net"
+	"net/http"
+	"net/http/httptest"
+	"net/url"
+	"strconv"
+	"strings"
+	"sync"
+	"sync/atomic"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/store"
+)
+
+// inFlight is the store counting how many secret comparisons run at once
+// (each starts by reading the stored hash) and slowing each a little, so
+// that overlapping ones would be seen.
+type inFlight struct {
+	*store.DB
+	now, most atomic.Int64
+}
+
+func (s *inFlight) FacilitatorHash(ctx context.Context) ([]byte, error) {
+	n := s.now.Add(1)
+	defer s.now.Add(-1)
+	for {
+		m := s.most.Load()
+		if n <= m || s.most.CompareAndSwap(m, n) {
+			break
+		}
+	}
+	time.Sleep(20 * time.Millisecond)
+	return s.DB.FacilitatorHash(ctx)
+}
+
+// clientFrom is an HTTP client whose connections come from the loopback
+// address ip (127.0.0.0/8 is all this machine's), so the server sees
+// different client addresses without any traffic leaving the machine.
+func clientFrom(ip string) *http.Client {
+	d := &net.Dialer{LocalAddr: &net.TCPAddr{IP: net.ParseIP(ip)}, Timeout: 5 * time.Second}
+	return &http.Client{
+		Transport:     &http.Transport{DialContext: d.DialContext},
+		CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse },
+	}
+}
+
+func postSignIn(t *testing.T, c *http.Client, base, secret string) (*http.Response, string) {
+	t.Helper()
+	req, err := http.NewRequest(http.MethodPost, base+"/signin", strings.NewReader(url.Values{"secret": {secret}}.Encode()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", base)
+	res, err := c.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer res.Body.Close()
+	b, _ := io.ReadAll(res.Body)
+	return res, string(b)
+}
+
+// TestSignInThrottled: a burst of sign-ins from one address gets 429 with
+// Retry-After once its allowance is spent, even with the right secret,
+// and nothing is compared meanwhile; many addresses together are held to
+// the overall allowance; and comparisons never overlap (issue 13, item
+// 2). The clock is the server's own, moved by the test.
+func TestSignInThrottled(t *testing.T) {
+	db, err := store.Open(t.TempDir() + "/parley.db")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	st := &inFlight{DB: db}
+	clock := time.Date(2026, 5, 4, 9, 0, 0, 0, time.UTC)
+	var clockMu sync.Mutex
+	now := func() time.Time { clockMu.Lock(); defer clockMu.Unlock(); return clock }
+	advance := func(d time.Duration) { clockMu.Lock(); clock = clock.Add(d); clockMu.Unlock() }
+	s, err := New(st, Options{Now: now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(s.Handler())
+	t.Cleanup(ts.Close)
+	secret, err := IssueFacilitatorSecret(context.Background(), db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	wrong := strings.Repeat("A", 43)
+
+	one := clientFrom("127.0.0.1")
+	for i := 0; i < SignInBurst; i++ {
+		if res, _ := postSignIn(t, one, ts.URL, wrong); res.StatusCode != http.StatusUnauthorized {
+			t.Fatalf("attempt %d within the allowance: %d, want 401", i+1, res.StatusCode)
+		}
+	}
+	before := s.signIns.compared.Load()
+	res, body := postSignIn(t, one, ts.URL, secret)
+	if res.StatusCode != http.StatusTooManyRequests {
+		t.Fatalf("attempt past the allowance: %d, want 429", res.StatusCode)
+	}
+	if ra, err := strconv.Atoi(res.Header.Get("Retry-After")); err != nil || ra < 1 || ra > int(SignInClientEvery/time.Second) {
+		t.Errorf("Retry-After %q, want 1 to %d seconds", res.Header.Get("Retry-After"), int(SignInClientEvery/time.Second))
+	}
+	if !strings.Contains(body, "too many sign-in attempts just now; nothing was checked. Try again in 5 seconds.") {
+		t.Error("the 429 page does not say when to try again")
+	}
+	if s.signIns.compared.Load() != before {
+		t.Error("a throttled attempt was compared")
+	}
+	// Once the address's allowance has come back, the right secret works.
+	advance(SignInClientEvery)
+	if res, _ := postSignIn(t, one, ts.URL, secret); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("after waiting: %d, want 303", res.StatusCode)
+	}
+
+	// A flood from 20 addresses at once: the overall allowance (spent
+	// down to its refill by the attempts above) admits at most
+	// SignInBurst, the rest are 429, and comparisons run one at a time.
+	advance(SignInBurst * SignInOverallEvery) // the overall allowance is full again
+	if _, err := IssueFacilitatorSecret(context.Background(), db); err != nil {
+		t.Fatal(err)
+	}
+	var wg sync.WaitGroup
+	var admitted, refused atomic.Int64
+	compared0 := s.signIns.compared.Load()
+	for i := 2; i < 22; i++ {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			res, _ := postSignIn(t, clientFrom("127.0.0."+strconv.Itoa(i)), ts.URL, wrong)
+			switch res.StatusCode {
+			case http.StatusUnauthorized:
+				admitted.Add(1)
+			case http.StatusTooManyRequests:
+				refused.Add(1)
+			default:
+				t.Errorf("flood: status %d", res.StatusCode)
+			}
+		}()
+	}
+	wg.Wait()
+	if admitted.Load() != SignInBurst || refused.Load() != 20-SignInBurst {
+		t.Errorf("flood from 20 addresses: %d compared, %d refused; want %d and %d", admitted.Load(), refused.Load(), SignInBurst, 20-SignInBurst)
+	}
+	if n := s.signIns.compared.Load() - compared0; n != SignInBurst {
+		t.Errorf("%d comparisons for the flood, want %d", n, SignInBurst)
+	}
+	if m := st.most.Load(); m != 1 {
+		t.Errorf("%d comparisons ran at once, want 1", m)
+	}
+}
