@@ -66,6 +66,21 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	t.Logf("the overview showed the save %v after it", time.Since(saved).Round(time.Millisecond))
 	shots.take(fac, "room-01-live-overview-1366")
 
+	// A typo in question 1's wording is corrected along the way: its
+	// answers keep their meaning, so only the text may change, and the
+	// decision log keeps the old wording.
+	fac.open(wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10) + "/edit")
+	fac.sees("correction form", "Correct question 1", "so its bounds, format")
+	fac.fill(`form[action$="/edit"]`, "wording", "Of the HX-40 inverters installed next spring, what proportion will need a replacement or a main-board repair within 12 months? (Invented.)")
+	fac.fill(`form[action$="/edit"]`, "reason", "Clearer wording after a question from the panel (invented).")
+	if st := fac.load("save the correction", chromedp.Click(chromedp.CSS(`form[action$="/edit"] button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("correction: %d", st)
+	}
+	fac.sees("panel after the correction", "will need a replacement or a main-board repair within 12 months")
+	fac.open(wsURL + "log")
+	fac.sees("decision log", "Question corrected", "Clearer wording after a question from the panel (invented).", "(need a replacement or a main-board repair)")
+	fac.open(wsURL)
+
 	// Close round 1: the room now shows the panel as it closed.
 	fac.fill(`#rounds form`, "reason", "Discussion of round 1 (invented).")
 	if st := fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`))); st != http.StatusOK {
@@ -81,7 +96,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	if st := room.open(roomURL(q1)); st != http.StatusOK {
 		t.Fatalf("room view: %d", st)
 	}
-	room.sees("room view of question 1", "Q1:", "as round 1 closed", "Where the medians lie", "Expert A", "Expert B", "Expert C", "Expert D",
+	room.sees("room view of question 1", "Q1:", "will need a replacement or a main-board repair within 12 months", "as round 1 closed", "Where the medians lie", "Expert A", "Expert B", "Expert C", "Expert D",
 		"Supplier audits found two line faults (invented).")
 	noLeaks(t, room, experts, qs)
 	// Nothing on the room view leaves it: its only links are its
