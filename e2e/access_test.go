@@ -26,7 +26,7 @@ func TestAccessInBrowser(t *testing.T) {
 	if st := stranger.open(site.URL + "/e/" + strings.Repeat("B", 43) + "/"); st != http.StatusNotFound {
 		t.Errorf("unknown expert link: status %d, want 404", st)
 	}
-	stranger.sees("unknown expert link", "Not found")
+	stranger.sees("unknown expert link", "This link does not work", "ask the facilitator for your current link")
 
 	fac := b.person("facilitator")
 	signIn(t, site, fac)
@@ -57,7 +57,7 @@ func TestAccessInBrowser(t *testing.T) {
 	if st := ex.open(link); st != http.StatusNotFound {
 		t.Errorf("revoked link: status %d, want 404", st)
 	}
-	ex.sees("revoked link", "Not found")
+	ex.sees("revoked link", "This link does not work", "ask the facilitator for your current link")
 	notShown(t, ex, "revoked link", "Cy Placeholder", "Pump reliability panel (invented)")
 
 	// Re-issued: a new link works, the old one still does not.

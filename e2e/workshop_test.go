@@ -242,7 +242,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	if st := fac.load("agree a decreasing consensus", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
 		t.Errorf("a decreasing consensus judgement: status %d, want 422", st)
 	}
-	if msg := eval[string](fac, "the consensus message", `(document.querySelector('form[action$="/agree"] .field-invalid .field-error') || {innerText: ""}).innerText`); !strings.Contains(msg, "increase") {
+	if msg := eval[string](fac, "the consensus message", `(document.querySelector('form[action$="/agree"] .field-invalid .field-error') || {innerText: ""}).innerText`); !strings.Contains(msg, "Must be larger than") {
 		t.Errorf("no message beside the consensus field that breaks the rule; got %q", msg)
 	}
 	if v := fac.value(agree + ` [name="values[0]"]`); v != "0.7" {

@@ -101,6 +101,10 @@ type Answer struct {
 	Confidence float64 `json:"confidence,omitempty"`
 	// Counts of chips per bin (FormatChips).
 	Counts []int `json:"counts,omitempty"`
+	// Percent records that the expert typed a proportion question's values
+	// as percentages (5% for 0.05): the values above are proportions either
+	// way, and pages and exports show them as they were typed.
+	Percent bool `json:"percent,omitempty"`
 }
 
 // Revision is one saved answer. Revisions are never changed or deleted:

@@ -135,10 +135,10 @@ func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, 
 	a := r.Answer
 	res, err := tx.ExecContext(ctx,
 		`INSERT INTO revisions (question_id, expert_id, round, at, reason,
-		 answer_values, lowest, highest, best, confidence, counts, entered_by, channel)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 answer_values, lowest, highest, best, confidence, counts, percent, entered_by, channel)
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		r.QuestionID, r.ExpertID, r.Round, formatTime(r.At), r.Reason,
-		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts, string(enteredBy(r.EnteredBy)), string(r.Channel))
+		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts, boolInt(a.Percent), string(enteredBy(r.EnteredBy)), string(r.Channel))
 	if err != nil {
 		return 0, fmt.Errorf("store: save revision: %w", err)
 	}

@@ -15,7 +15,7 @@ import (
 // The last column is whether the facilitator's latest decision on the
 // revision's reason withholds it from the feedback (reason_decisions).
 const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
-	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts, r.entered_by, r.channel,
+	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts, r.percent, r.entered_by, r.channel,
 	COALESCE((SELECT d.withheld FROM reason_decisions d WHERE d.revision_id = r.id ORDER BY d.id DESC LIMIT 1), 0)`
 
 // ExpertRevisions returns one expert's revisions on every question of
@@ -55,13 +55,13 @@ func scanRevisions(rows *sql.Rows, err error) ([]elicit.Revision, error) {
 		var (
 			r                       elicit.Revision
 			at, vs, counts, by, via string
-			withheld                int
+			withheld, percent       int
 		)
 		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
-			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts, &by, &via, &withheld); err != nil {
+			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts, &percent, &by, &via, &withheld); err != nil {
 			return nil, fmt.Errorf("store: read revision: %w", err)
 		}
-		r.ReasonWithheld = withheld == 1
+		r.ReasonWithheld, r.Answer.Percent = withheld == 1, percent == 1
 		r.EnteredBy, r.Channel = elicit.EnteredBy(by), elicit.Channel(via)
 		if r.At, err = parseTime(at); err != nil {
 			return nil, err

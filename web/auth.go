@@ -217,17 +217,18 @@ func expertFrom(ctx context.Context) elicit.Expert {
 }
 
 // requireExpert resolves the {token} in the path to its expert. Unknown,
-// malformed and revoked tokens all get the same bare 404.
+// malformed and revoked tokens all get the same 404, which tells the
+// person what to do without saying which of the three it was.
 func (s *Server) requireExpert(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		hash, ok := tokenHash(chi.URLParam(r, "token"))
 		if !ok {
-			s.notFound(w, r)
+			s.linkGone(w, r)
 			return
 		}
 		e, err := s.store.ExpertByToken(r.Context(), hash)
 		if errors.Is(err, elicit.ErrNotFound) || (err == nil && e.Revoked) {
-			s.notFound(w, r)
+			s.linkGone(w, r)
 			return
 		}
 		if err != nil {
@@ -240,3 +241,11 @@ func (s *Server) requireExpert(next http.Handler) http.Handler {
 
 // expertPath is the private link of the expert holding token.
 func expertPath(token string) string { return "/e/" + token + "/" }
+
+// linkGone answers a private link that leads nowhere: mistyped, replaced
+// by a new one, or ended.
+func (s *Server) linkGone(w http.ResponseWriter, r *http.Request) {
+	s.renderPage(w, r, http.StatusNotFound, PageMeta{Title: "This link does not work"},
+		messagePage("This link does not work", "This private link does not open anything: it may have been mistyped, "+
+			"replaced by a new one, or ended. Please ask the facilitator for your current link."))
+}

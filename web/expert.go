@@ -73,6 +73,10 @@ type expertQuestionView struct {
 	// Reasons are the other experts' reasons from the feedback round,
 	// under the same labels as their curves; withheld ones are left out.
 	Reasons []feedbackReason
+	// NextHref and NextLabel lead, after a save, to the next question the
+	// expert has not answered in this round; AllAnswered says there is none.
+	NextHref, NextLabel string
+	AllAnswered         bool
 	// EnteredNote says, when the expert's current answer was entered by
 	// the facilitator, when and from what ("was entered by the facilitator
 	// on … from your paper form").
@@ -110,6 +114,18 @@ type answerForm struct {
 	Error       string // a message not tied to one field
 	Invalid     bool   // some field has a message
 	Chips       int    // chips to place, FormatChips
+	// Proportion is set for a proportion question (bounds 0 and 1),
+	// whose values may be typed as percentages; Unit is the form's choice,
+	// unitProportion or unitPercent.
+	Proportion bool
+	Unit       string
+	// Bins are the chips' bins, for the picture the chips script draws.
+	Bins []chipBin
+}
+
+// chipBin is one bin of a chips question.
+type chipBin struct {
+	From, To string
 }
 
 type formField struct {
@@ -194,7 +210,13 @@ func fittedBack(p, fittedP float64) string {
 
 // newAnswerForm lays out the question's form with the typed values.
 func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
-	f := answerForm{Format: q.Format, Chips: q.Chips}
+	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: isProportion(q) && q.Format != elicit.FormatChips, Unit: unitProportion}
+	if typed["unit"] == unitPercent {
+		f.Unit = unitPercent
+	}
+	for i := 0; i+1 < len(q.BinEdges) && q.Format == elicit.FormatChips; i++ {
+		f.Bins = append(f.Bins, chipBin{From: chart.FormatValue(q.BinEdges[i]), To: chart.FormatValue(q.BinEdges[i+1])})
+	}
 	add := func(name, label, hint, suffix string) {
 		f.Fields = append(f.Fields, formField{
 			Name: name, ID: "f-" + strings.NewReplacer("[", "-", "]", "").Replace(name),
@@ -210,7 +232,7 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 		add("lowest", "Lowest plausible value"+units, "", "")
 		add("highest", "Highest plausible value"+units, "", "")
 		add("best", "Best estimate"+units, "", "")
-		add("confidence", "How sure are you that the true value lies between your lowest and highest?", "A percentage, for example 80.", "%")
+		add("confidence", "How sure are you that the true value lies between your lowest and highest?", "A percentage, for example 80 for 80% sure.", "%")
 	case elicit.FormatChips:
 		for i := 0; i+1 < len(q.BinEdges); i++ {
 			add(fmt.Sprintf("counts[%d]", i),
@@ -229,25 +251,40 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 	return f
 }
 
-// answerValues writes a saved answer back as form values, for pre-filling.
+// answerValues writes a saved answer back as form values, for
+// pre-filling, as the expert typed it.
 func answerValues(q elicit.Question, a elicit.Answer) map[string]string {
 	m := map[string]string{}
 	switch q.Format {
 	case elicit.FormatInterval:
-		m["lowest"] = fmt.Sprint(a.Lowest)
-		m["highest"] = fmt.Sprint(a.Highest)
-		m["best"] = fmt.Sprint(a.Best)
-		m["confidence"] = chart.FormatValue(a.Confidence * 100)
+		m["lowest"] = formNumber(a.Lowest, a.Percent)
+		m["highest"] = formNumber(a.Highest, a.Percent)
+		m["best"] = formNumber(a.Best, a.Percent)
+		m["confidence"] = formNumber(a.Confidence, true)
 	case elicit.FormatChips:
 		for i, c := range a.Counts {
-			m[fmt.Sprintf("counts[%d]", i)] = fmt.Sprint(c)
+			if c > 0 {
+				m[fmt.Sprintf("counts[%d]", i)] = strconv.Itoa(c)
+			}
 		}
 	default:
 		for i, v := range a.Values {
-			m[fmt.Sprintf("values[%d]", i)] = fmt.Sprint(v)
+			m[fmt.Sprintf("values[%d]", i)] = formNumber(v, a.Percent)
 		}
 	}
+	if a.Percent {
+		m["unit"] = unitPercent
+	}
 	return m
+}
+
+// inputMode asks a phone for the keypad a format needs: whole numbers
+// for chips, decimals otherwise.
+func inputMode(f elicit.AnswerFormat) string {
+	if f == elicit.FormatChips {
+		return "numeric"
+	}
+	return "decimal"
 }
 
 func fieldClass(f formField) string {
@@ -407,54 +444,14 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	v := s.questionView(r, sc, typed, "")
 	v.Preview = preview
 	v.Saved = r.URL.Query().Get("saved") == "1"
+	if v.Saved {
+		if err := s.nextUnanswered(r, sc, &v); err != nil {
+			s.fail(w, r, err)
+			return
+		}
+	}
 	runtime.Gosched()
 	s.renderQuestion(w, r, http.StatusOK, sc, v)
-}
-
-// readAnswer parses the posted form into the question's format through
-// the one form parser, then fits it with elicit, which applies the
-// judgement's own rules. Errors land beside the fields they name.
-func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
-	// Errors of other fields (a reason, a channel) do not stop the
-	// answer's own rules from being checked: every error shows at once.
-	before := len(f.Errors)
-	var a elicit.Answer
-	switch q.Format {
-	case elicit.FormatInterval:
-		a.Lowest = f.Float("lowest")
-		a.Highest = f.Float("highest")
-		a.Best = f.Float("best")
-		a.Confidence = f.Float("confidence") / 100
-	case elicit.FormatChips:
-		a.Counts = make([]int, max(0, len(q.BinEdges)-1))
-		for i := range a.Counts {
-			a.Counts[i] = f.Int(fmt.Sprintf("counts[%d]", i), 0, 1_000_000)
-		}
-	default:
-		a.Values = make([]float64, len(q.Probs))
-		for i := range a.Values {
-			a.Values[i] = f.Float(fmt.Sprintf("values[%d]", i))
-		}
-	}
-	if len(f.Errors) > before {
-		return a, elicit.Fit{}, false
-	}
-	fit, err := q.Fit(a)
-	if err != nil {
-		var ie *elicit.InputError
-		switch {
-		case errors.As(err, &ie) && ie.Field == "confidence":
-			// The form takes a percentage; say the rule in its terms.
-			f.set("confidence", "must lie strictly between 0% and 100%")
-		case errors.As(err, &ie) && ie.Field == "counts":
-			// A rule about all the bins together belongs to the whole form.
-			f.set("", "Your chips "+string(ie.Rule)+detailSuffix(ie.Detail)+".")
-		default:
-			f.Fail(err, nil)
-		}
-		return a, fit, false
-	}
-	return a, fit, true
 }
 
 func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
@@ -578,8 +575,8 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status int, sc expertScope, v expertQuestionView) {
 	m := PageMeta{
 		Title:    "Question " + strconv.Itoa(sc.question.Position) + " · " + sc.workshop.Title,
-		Invented: sc.workshop.Invented, Caution: true,
-		Scripts: []string{"/static/preview.js"},
+		Invented: sc.workshop.Invented, Caution: true, CautionCompact: true,
+		Scripts: []string{"/static/preview.js", "/static/chips.js"},
 	}
 	s.renderPage(w, r, status, m, expertQuestion(v))
 }
@@ -642,8 +639,8 @@ func answerSummary(q elicit.Question, a elicit.Answer) string {
 	var parts []string
 	switch q.Format {
 	case elicit.FormatInterval:
-		parts = append(parts, "lowest "+chart.FormatValue(a.Lowest), "highest "+chart.FormatValue(a.Highest),
-			"best "+chart.FormatValue(a.Best), "sure "+chart.FormatPercent(a.Confidence))
+		parts = append(parts, "lowest "+typedBack(a.Lowest, a.Percent), "highest "+typedBack(a.Highest, a.Percent),
+			"best "+typedBack(a.Best, a.Percent), "sure "+chart.FormatPercent(a.Confidence))
 	case elicit.FormatChips:
 		for _, c := range a.Counts {
 			parts = append(parts, strconv.Itoa(c))
@@ -655,7 +652,7 @@ func answerSummary(q elicit.Question, a elicit.Answer) string {
 			if i < len(q.Probs) {
 				p = chart.FormatPercent(q.Probs[i])
 			}
-			parts = append(parts, p+": "+chart.FormatValue(x))
+			parts = append(parts, p+": "+typedBack(x, a.Percent))
 		}
 	}
 	return strings.Join(parts, "; ")
@@ -669,6 +666,11 @@ func newPreview(q elicit.Question, fit elicit.Fit) *previewView {
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
 		},
+	}
+	if q.Format != elicit.FormatChips {
+		if line := readAsLine(q, fit.Stated); line != "" {
+			p.ReadBacks = append(p.ReadBacks, line)
+		}
 	}
 	for i := range fit.Probs {
 		if i >= len(fit.Stated) {
@@ -684,9 +686,7 @@ func newPreview(q elicit.Question, fit elicit.Fit) *previewView {
 	}
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted %s puts the middle 90%% of the chance between %s and %s, with median %s.",
 		p.Params, chart.FormatValue(fit.Percentiles[0]), chart.FormatValue(fit.Percentiles[2]), chart.FormatValue(fit.Percentiles[1])))
-	for _, w := range fit.Warnings {
-		p.Warnings = append(p.Warnings, w.Message)
-	}
+	p.Warnings = expertWarnings(q, fit)
 	return p
 }
 
@@ -952,4 +952,42 @@ const overlayLimit = 12
 func poolCurve(pool elicit.Pool) chart.Curve {
 	return chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
 		PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components}
+}
+
+// nextUnanswered finds, after a save, the first question after this one
+// (then from the start) that the expert has not answered in this round
+// and can still answer.
+func (s *Server) nextUnanswered(r *http.Request, sc expertScope, v *expertQuestionView) error {
+	qs, err := s.store.Questions(r.Context(), sc.workshop.ID)
+	if err != nil {
+		return err
+	}
+	revs, err := s.store.ExpertRevisions(r.Context(), sc.expert.ID)
+	if err != nil {
+		return err
+	}
+	done := map[int64]bool{sc.question.ID: true}
+	for _, rv := range revs {
+		if rv.Round == sc.workshop.Round {
+			done[rv.QuestionID] = true
+		}
+	}
+	var after, before []elicit.Question
+	for _, q := range qs {
+		if q.Retired || q.Frozen() || done[q.ID] {
+			continue
+		}
+		if q.Position > sc.question.Position {
+			after = append(after, q)
+		} else {
+			before = append(before, q)
+		}
+	}
+	if next := append(after, before...); len(next) > 0 {
+		v.NextHref = v.Base + "/q/" + strconv.FormatInt(next[0].ID, 10)
+		v.NextLabel = "Question " + strconv.Itoa(next[0].Position) + ": " + next[0].Quantity
+		return nil
+	}
+	v.AllAnswered = true
+	return nil
 }

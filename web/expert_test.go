@@ -35,6 +35,7 @@ type expertRig struct {
 	qi      elicit.Question // four-value interval
 	qcal    elicit.Question // calibration, true value hidden
 	qc      elicit.Question // chips in five bins
+	qs      elicit.Question // quantiles on a scale of days, not a proportion
 	tokens  []string        // one per expert
 	experts []elicit.Expert
 }
@@ -73,7 +74,9 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 	g.qc = elicit.Question{WorkshopID: g.ws.ID, Wording: "Place 20 chips on the share of seals replaced early.",
 		Quantity: "Early replacement share", Lower: 0, Upper: 1, Format: elicit.FormatChips,
 		BinEdges: []float64{0, 0.1, 0.2, 0.3, 0.5, 1}, Chips: 20}
-	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal, &g.qc} {
+	g.qs = elicit.Question{WorkshopID: g.ws.ID, Wording: "How many days does a seal repair take?",
+		Quantity: "Repair time", Units: "days", Lower: 10, Upper: 50, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal, &g.qc, &g.qs} {
 		if err := db.AddQuestion(ctx, q); err != nil {
 			t.Fatal(err)
 		}
@@ -306,13 +309,17 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		rule  string
 		typed string // a typed value that must be shown again
 	}{
-		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", string(elicit.RuleValueIncreasing), "0.01"},
-		{"outside bounds", g.q, quantiles("0.05", "0.2", "1.5"), "f-values-2", string(elicit.RuleValueInBounds), "1.5"},
-		{"not a number", g.q, quantiles("0.05", "abc", "0.4"), "f-values-1", string(RuleNumberSyntax), "abc"},
-		{"decimal comma", g.q, quantiles("0,05", "0.2", "0.4"), "f-values-0", string(RuleNumberSyntax), "0,05"},
-		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", string(elicit.RuleRequired), "0.05"},
+		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", "Must be larger than the value above it (your 5% value).", "0.01"},
+		{"outside bounds", g.q, quantiles("0.05", "0.2", "1.5"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 1.5. Did you mean 1.5%?", "1.5"},
+		{"not a number", g.q, quantiles("0.05", "abc", "0.4"), "f-values-1", "“abc” is not a number Parley can read.", "abc"},
+		{"decimal comma", g.q, quantiles("0,05", "0.2", "0.4"), "f-values-0", "“0,05” is not a number Parley can read.", "0,05"},
+		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", "Please fill this in.", "0.05"},
 		{"confidence over 100%", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"120"}},
-			"f-confidence", "between 0% and 100%", "120"},
+			"f-confidence", "Must be more than 0% and less than 100%; you typed 120.", "120"},
+		{"confidence as a fraction", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"0.8"}},
+			"f-confidence", "Type the confidence as a percentage: did you mean 80%?", "0.8"},
+		{"a percentage on a question that is not a proportion", g.qs, url.Values{"values[0]": {"20%"}, "values[1]": {"30"}, "values[2]": {"40"}},
+			"f-values-0", "not as percentages", "20%"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -685,8 +692,8 @@ func TestExpertChipsForm(t *testing.T) {
 		id   string
 		rule string
 	}{
-		{"too many chips", chips("5", "6", "7", "4", "1"), "", "Your chips " + string(elicit.RuleChipsExceeded)},
-		{"negative", chips("2", "-6", "7", "4", "1"), "f-counts-1", string(elicit.RuleInteger)},
+		{"too many chips", chips("5", "6", "7", "4", "1"), "", "You have placed 23 chips, and this question has 20. Take 3 away."},
+		{"negative", chips("2", "-6", "7", "4", "1"), "f-counts-1", "Type a whole number of chips"},
 	} {
 		resp, body := g.post(g.qpath(0, g.qc)+"/save", c.form)
 		msg := shownError(body, c.id)

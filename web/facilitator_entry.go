@@ -129,7 +129,7 @@ func (s *Server) entryView(sc entryScope, own []elicit.Revision, typed map[strin
 
 func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int, v entryView) {
 	m := facilitatorMeta(v.Workshop, "Q"+strconv.Itoa(v.Question.Position)+" for "+v.Expert.Name, "overview")
-	m.Scripts = []string{"/static/preview.js"}
+	m.Scripts = []string{"/static/preview.js", "/static/chips.js"}
 	s.renderPage(w, r, status, m, entryPageView(v))
 }
 

@@ -63,7 +63,7 @@ func (s *Server) newQuestionForm(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(map[string][]string{
 		"lower": {"0"}, "upper": {"1"}, "format": {string(elicit.FormatQuantiles)},
-		"preset": {"p05_50_95"}, "chips": {"20"}, "bin_edges": {"0, 0.1, 0.2, 0.3, 0.4, 0.5, 0.6, 0.7, 0.8, 0.9, 1"},
+		"preset": {"p05_50_95"}, "chips": {strconv.Itoa(elicit.DefaultChips)},
 	})
 	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Add a question", "overview"),
 		questionFormPage(questionForm{Workshop: ws, Form: f}))
@@ -128,7 +128,14 @@ func parseQuestion(f *Form) elicit.Question {
 			q.Probs = f.FloatList("custom_probs")
 		}
 	case elicit.FormatChips:
-		q.BinEdges = f.FloatList("bin_edges")
+		if strings.TrimSpace(f.Value("bin_edges")) == "" {
+			// Parley's default: equal bins across the question's bounds.
+			if f.Error("lower") == "" && f.Error("upper") == "" && q.Lower < q.Upper {
+				q.BinEdges = elicit.DefaultBinEdges(q.Lower, q.Upper)
+			}
+		} else {
+			q.BinEdges = f.FloatList("bin_edges")
+		}
 		q.Chips = f.Int("chips", 1, 1000)
 	}
 	if f.Checked("calibration") {

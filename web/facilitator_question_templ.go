@@ -276,7 +276,7 @@ func questionFormPage(v questionForm) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textInput(v.Form, "bin_edges", "Bin edges", "Only for chips: from the lower to the upper bound, increasing, separated by spaces or commas.", false).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textInput(v.Form, "bin_edges", "Bin edges", "Only for chips: from the lower to the upper bound, increasing, separated by spaces or commas. Leave empty for eight equal bins across the bounds.", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

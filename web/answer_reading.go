@@ -1,0 +1,318 @@
+package web
+
+import (
+	"errors"
+	"fmt"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// Reading an expert's answer from the form, in the expert's own terms:
+// a proportion question takes 0.05 or 5% (and, with the form's
+// percentage choice, a plain 5 as 5%); the four-value confidence is a
+// percentage, 80 or 80%; an empty chips bin holds none. Every field's
+// problem is found at once (elicit's Question.Problems) and said in words
+// written for the expert, with the value as they typed it.
+
+// Form values of the proportion question's unit choice.
+const (
+	unitProportion = "proportion"
+	unitPercent    = "percent"
+)
+
+// isProportion reports whether q's values are proportions, which experts
+// may type as percentages.
+func isProportion(q elicit.Question) bool { return q.Lower == 0 && q.Upper == 1 }
+
+// rulePercentHere refuses a % sign where the question's values are not
+// proportions.
+const rulePercentHere elicit.Rule = "is not a percentage: this question's values are not proportions"
+
+// parseAnswerNumber reads one value of an answer: a plain number, or for
+// a proportion question a percentage (5% → 0.05; a plain 5 too when
+// asPercent). typedPercent reports that it was read as a percentage.
+func parseAnswerNumber(name, raw string, q elicit.Question, asPercent bool) (v float64, typedPercent bool, err error) {
+	s := strings.TrimSpace(raw)
+	if rest, ok := strings.CutSuffix(s, "%"); ok {
+		if !isProportion(q) {
+			return 0, false, &elicit.InputError{Field: name, Rule: rulePercentHere}
+		}
+		v, err := parseFloatField(name, rest)
+		return v / 100, true, err
+	}
+	v, err = parseFloatField(name, s)
+	if err == nil && asPercent && isProportion(q) {
+		return v / 100, true, nil
+	}
+	return v, false, err
+}
+
+// ruleConfidencePercent refuses a confidence typed as a fraction.
+const ruleConfidencePercent elicit.Rule = "is a percentage"
+
+// parseConfidence reads the four-value confidence: 80 or 80% for 80%. A
+// value at or below 1 without a % sign is refused: 0.8 almost always
+// means 80%, and reading it as 0.8% would give a nonsense curve.
+func parseConfidence(raw string) (float64, error) {
+	s := strings.TrimSpace(raw)
+	rest, hadSign := strings.CutSuffix(s, "%")
+	v, err := parseFloatField("confidence", rest)
+	if err != nil {
+		return 0, err
+	}
+	if !hadSign && v > 0 && v <= 1 {
+		return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent, Detail: chart.FormatValue(v * 100)}
+	}
+	return v / 100, nil
+}
+
+// readAnswer parses the posted form into the question's format, then
+// lets elicit judge it: every field's problem at once (Problems), then
+// the fit's own rules (Fit). Messages land beside their fields, written
+// for the expert.
+func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
+	// Errors of other fields (a reason, a channel) do not stop the
+	// answer's own rules from being checked: every error shows at once.
+	before := len(f.Errors)
+	var a elicit.Answer
+	asPercent := isProportion(q) && f.Value("unit") == unitPercent
+	typed, count := 0, 0
+	value := func(name string) float64 {
+		v, pct, err := parseAnswerNumber(name, f.Value(name), q, asPercent)
+		if err != nil {
+			f.set(name, expertWords(q, f, err))
+		}
+		count++
+		if pct {
+			typed++
+		}
+		return v
+	}
+	switch q.Format {
+	case elicit.FormatInterval:
+		a.Lowest = value("lowest")
+		a.Highest = value("highest")
+		a.Best = value("best")
+		c, err := parseConfidence(f.Value("confidence"))
+		if err != nil {
+			f.set("confidence", expertWords(q, f, err))
+		}
+		a.Confidence = c
+	case elicit.FormatChips:
+		a.Counts = make([]int, max(0, len(q.BinEdges)-1))
+		for i := range a.Counts {
+			name := fmt.Sprintf("counts[%d]", i)
+			if strings.TrimSpace(f.Value(name)) == "" {
+				continue // an empty bin holds no chips
+			}
+			n, err := parseIntField(name, f.Value(name), 0, elicit.MaxChips)
+			if err != nil {
+				f.set(name, expertWords(q, f, err))
+			}
+			a.Counts[i] = n
+		}
+	default:
+		a.Values = make([]float64, len(q.Probs))
+		for i := range a.Values {
+			a.Values[i] = value(fmt.Sprintf("values[%d]", i))
+		}
+	}
+	a.Percent = isProportion(q) && q.Format != elicit.FormatChips && count > 0 && typed == count
+	unread := len(f.Errors) > before
+	if ps := q.Problems(a); len(ps) > 0 {
+		// Beside the fields that could be read, every problem at once; a
+		// field that could not be read is not compared with its neighbour.
+		for _, p := range ps {
+			field := answerField(p.Field)
+			if unread && (f.Error(field) != "" || f.Error(comparedWith(p.Field)) != "" || field == "") {
+				continue
+			}
+			f.set(field, expertWords(q, f, p))
+		}
+		return a, elicit.Fit{}, false
+	}
+	if unread {
+		return a, elicit.Fit{}, false
+	}
+	fit, err := q.Fit(a)
+	if err != nil {
+		var ie *elicit.InputError
+		field := ""
+		if errors.As(err, &ie) {
+			field = answerField(ie.Field)
+		}
+		f.set(field, expertWords(q, f, err))
+		return a, fit, false
+	}
+	return a, fit, true
+}
+
+// comparedWith is the field a value must exceed ("" for none).
+func comparedWith(field string) string {
+	switch field {
+	case "best":
+		return "lowest"
+	case "highest":
+		return "best"
+	}
+	var i int
+	if _, err := fmt.Sscanf(field, "values[%d]", &i); err == nil && i > 0 {
+		return fmt.Sprintf("values[%d]", i-1)
+	}
+	return ""
+}
+
+// answerField is the form field of an elicit field: a rule about all the
+// chips together belongs to the form as a whole.
+func answerField(field string) string {
+	if field == "counts" {
+		return ""
+	}
+	return field
+}
+
+// expertWords says what is wrong with a field in words for the expert,
+// quoting what they typed; no rule names, interval notation or
+// exponents.
+func expertWords(q elicit.Question, f *Form, err error) string {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return "Parley could not read this. Please check it."
+	}
+	typed := strings.TrimSpace(f.Value(ie.Field))
+	lo, hi := chart.FormatValue(q.Lower), chart.FormatValue(q.Upper)
+	between := "between " + lo + " and " + hi
+	if isProportion(q) {
+		between = "between 0 and 1 (0% and 100%)"
+	}
+	switch ie.Rule {
+	case elicit.RuleRequired:
+		return "Please fill this in."
+	case RuleNumberSyntax, elicit.RuleFinite:
+		if isProportion(q) {
+			return "“" + clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
+		}
+		return "“" + clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
+	case rulePercentHere:
+		return "This question's values run " + between + ", not as percentages: please type the value without %."
+	case ruleConfidencePercent:
+		return "Type the confidence as a percentage: did you mean " + ie.Detail + "%?"
+	case elicit.RuleValueInBounds:
+		msg := "Must be " + between + "; you typed " + typed + "."
+		if v, err := strconv.ParseFloat(strings.TrimSuffix(typed, "%"), 64); err == nil && isProportion(q) && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
+			msg += " Did you mean " + typed + "%? Type " + typed + "% or choose percentages above."
+		}
+		return msg
+	case elicit.RuleValueIncreasing:
+		return "Must be larger than " + previousLabel(q, ie.Field) + "."
+	case elicit.RuleProbOpen:
+		if ie.Field == "confidence" {
+			return "Must be more than 0% and less than 100%; you typed " + typed + "."
+		}
+	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
+		return "Type a whole number of chips, such as 3, or leave it empty for none."
+	case elicit.RuleChipsExceeded:
+		total := 0
+		for i := 0; i+1 < len(q.BinEdges); i++ {
+			if n, err := strconv.Atoi(strings.TrimSpace(f.Value(fmt.Sprintf("counts[%d]", i)))); err == nil {
+				total += n
+			}
+		}
+		return fmt.Sprintf("You have placed %d chips, and this question has %d. Take %d away.", total, q.Chips, total-q.Chips)
+	case elicit.RuleCountsNotAllZero:
+		return fmt.Sprintf("Place your %d chips: none are placed yet.", q.Chips)
+	case elicit.RuleChipsSpread:
+		return "Put chips in at least three bins: a curve needs some spread to be fitted."
+	}
+	// The fit's own rules (values too close together, or too close to a
+	// bound, for a curve to mean anything).
+	return "Parley cannot fit a curve to these values as they are: " + strings.TrimSuffix(string(ie.Rule), ".") + ". Please check them."
+}
+
+// previousLabel names the value a field must exceed, as the form labels it.
+func previousLabel(q elicit.Question, field string) string {
+	switch field {
+	case "best":
+		return "your lowest plausible value"
+	case "highest":
+		return "your best estimate"
+	}
+	var i int
+	if _, err := fmt.Sscanf(field, "values[%d]", &i); err == nil && i > 0 && i <= len(q.Probs) {
+		return "the value above it (your " + chart.FormatPercent(q.Probs[i-1]) + " value)"
+	}
+	return "the value before it"
+}
+
+// formNumber writes a stored value back into the form as the expert
+// typed it: as a percentage when they typed percentages, never with an
+// exponent.
+func formNumber(v float64, percent bool) string {
+	if percent {
+		v *= 100
+	}
+	s := strconv.FormatFloat(v, 'f', -1, 64)
+	if p, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64); err == nil {
+		s = strconv.FormatFloat(p, 'f', -1, 64) // 0.30000000000000004 → 0.3
+	}
+	return s
+}
+
+// shownValue writes a stored value for the expert, as they typed it.
+func typedBack(v float64, percent bool) string {
+	if percent {
+		return chart.FormatPercent(v)
+	}
+	return chart.FormatValue(v)
+}
+
+// readAsLine says how a proportion question's values were read: "Read as
+// 0.02 (2%), 0.05 (5%) and 0.12 (12%)."
+func readAsLine(q elicit.Question, values []float64) string {
+	if !isProportion(q) || len(values) == 0 {
+		return ""
+	}
+	parts := make([]string, len(values))
+	for i, v := range values {
+		parts[i] = chart.FormatValue(v) + " (" + chart.FormatPercent(v) + ")"
+	}
+	last := len(parts) - 1
+	if last == 0 {
+		return "Read as " + parts[0] + "."
+	}
+	return "Read as " + strings.Join(parts[:last], ", ") + " and " + parts[last] + "."
+}
+
+// expertWarnings are a fit's warnings in words for the expert; the
+// facilitator's pages keep elicit's own, written for them.
+func expertWarnings(q elicit.Question, fit elicit.Fit) []string {
+	var out []string
+	for _, w := range fit.Warnings {
+		switch w.Code {
+		case elicit.WarnUShaped:
+			out = append(out, "The curve that fits your numbers piles up at both ends: it says the value is most likely close to "+
+				chart.FormatValue(q.Lower)+" or to "+chart.FormatValue(q.Upper)+", and least likely in between. If that is not what you mean, bring your outer values in towards your middle one.")
+		case elicit.WarnJShaped:
+			end := chart.FormatValue(q.Lower)
+			if fit.Dist.Alpha >= 1 {
+				end = chart.FormatValue(q.Upper)
+			}
+			out = append(out, "The curve that fits your numbers is highest right at "+end+": it says values at the very edge are the most likely. If you expect the value to sit a little away from "+end+", adjust your values.")
+		case elicit.WarnPoorFit:
+			out = append(out, "No curve of this kind matches all your numbers closely; the sentences above show how far it is from each. You may want to adjust one of them.")
+		case elicit.WarnNearCertainty:
+			out = append(out, "Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.")
+		default:
+			out = append(out, "Please check the curve against your numbers.")
+		}
+	}
+	if q.Format == elicit.FormatInterval && len(fit.Probs) == 3 {
+		if c := fit.Probs[2] - fit.Probs[0]; c < 0.5 {
+			out = append(out, "You are "+chart.FormatPercent(c)+" sure the value lies between your lowest and highest values, so you think it more likely lies outside them. If you meant that you are fairly sure it lies inside, raise the confidence.")
+		}
+	}
+	return out
+}

@@ -1,0 +1,158 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strings"
+	"testing"
+)
+
+// A proportion question takes percentages: 5% always, a plain 5 when the
+// form says percentages; the read-back says how each value was read, and
+// the saved answer is shown again as typed.
+func TestExpertTypesPercentages(t *testing.T) {
+	g := newExpertRig(t)
+	ctx := context.Background()
+	// With the sign, whatever the form's choice.
+	_, body := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("2%", "5%", "12%"))
+	if !strings.Contains(body, "Read as 0.02 (2%), 0.05 (5%) and 0.12 (12%).") {
+		t.Errorf("the read-back does not say how the percentages were read:\n%s", body)
+	}
+	// Without it, under the percentage choice.
+	form := quantiles("2", "5", "12")
+	form.Set("unit", "percent")
+	if r, _ := g.post(g.qpath(0, g.q)+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save in percentages: %d", r.StatusCode)
+	}
+	revs := g.revisions()
+	a := revs[len(revs)-1].Answer
+	if !a.Percent || a.Values[0] != 0.02 || a.Values[1] != 0.05 || a.Values[2] != 0.12 {
+		t.Fatalf("saved %+v, want 0.02, 0.05, 0.12 typed as percentages", a)
+	}
+	_, page := g.get(g.qpath(0, g.q))
+	if !strings.Contains(page, `value="5"`) || !strings.Contains(page, `id="f-unit-percent" name="unit" value="percent" checked`) ||
+		!strings.Contains(page, "5%: 2%; 50%: 5%; 95%: 12%") {
+		t.Error("the page does not show the saved answer as the expert typed it")
+	}
+	// A plain 5 under the proportion choice is refused with the likely meaning.
+	_, body = g.post(g.qpath(0, g.q)+"/save", quantiles("0.02", "5", "0.12"))
+	if msg := shownError(body, "f-values-1"); !strings.Contains(msg, "Did you mean 5%?") {
+		t.Errorf("5 as a proportion: %q", msg)
+	}
+	_ = ctx
+}
+
+// The four-value confidence is a percentage: 80 and 80% both mean 80%;
+// 0.8 is refused with help; under 50% the preview asks the expert to
+// check.
+func TestConfidenceAsAPercentage(t *testing.T) {
+	g := newExpertRig(t)
+	base := url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}}
+	for _, c := range []string{"80", "80%", " 80 % "} {
+		f := url.Values{}
+		for k, v := range base {
+			f[k] = v
+		}
+		f.Set("confidence", c)
+		r, body := g.post(g.qpath(0, g.qi)+"/preview?fragment=1", f)
+		if r.StatusCode != http.StatusOK || strings.Contains(body, "sure the value lies between your lowest and highest values, so you think it more likely") {
+			t.Errorf("confidence %q: %d", c, r.StatusCode)
+		}
+	}
+	f := url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"40"}}
+	if _, body := g.post(g.qpath(0, g.qi)+"/preview?fragment=1", f); !strings.Contains(body, "You are 40% sure the value lies between your lowest and highest values, so you think it more likely lies outside them.") {
+		t.Error("a confidence under 50% is not checked in plain words")
+	}
+}
+
+// Every broken field is marked at once, and the expert's page never
+// shows the facilitator's words, interval notation or exponents.
+func TestExpertSeesEveryErrorInTheirOwnWords(t *testing.T) {
+	g := newExpertRig(t)
+	_, body := g.post(g.qpath(0, g.q)+"/save", quantiles("0.5", "0.3", "1.2"))
+	if shownError(body, "f-values-1") == "" || shownError(body, "f-values-2") == "" {
+		t.Errorf("not every broken field is marked: values[1] %q, values[2] %q", shownError(body, "f-values-1"), shownError(body, "f-values-2"))
+	}
+	_, body = g.post(g.qpath(0, g.qi)+"/save", url.Values{"lowest": {"0.6"}, "highest": {"abc"}, "best": {"0.2"}, "confidence": {"0.8"}})
+	for _, id := range []string{"f-best", "f-highest", "f-confidence"} {
+		if shownError(body, id) == "" {
+			t.Errorf("%s is not marked", id)
+		}
+	}
+	// A U-shaped fit: the warning speaks to the expert.
+	_, body = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.0001", "0.5", "0.9999"))
+	text := regexp.MustCompile(`<[^>]*>`).ReplaceAllString(body, " ")
+	for _, bad := range []string{"Show the expert", "Check with the expert", "alpha", "(0, 1)", "e-0"} {
+		if strings.Contains(text, bad) {
+			t.Errorf("the expert's preview says %q", bad)
+		}
+	}
+	if !strings.Contains(body, "piles up at both ends") {
+		t.Error("the U-shape warning is not in the expert's words")
+	}
+	// A tiny value typed is shown again as typed, never as an exponent.
+	_, body = g.post(g.qpath(0, g.q)+"/save", quantiles("0.000025", "0.00003", "0.00002"))
+	if !strings.Contains(body, `value="0.000025"`) || strings.Contains(body, "2.5e-05") {
+		t.Error("a small value is not shown as typed")
+	}
+}
+
+// Chips: an empty bin holds none; the messages are sentences.
+func TestChipsEmptyBinsAndSentences(t *testing.T) {
+	g := newExpertRig(t)
+	f := url.Values{"counts[0]": {""}, "counts[1]": {"8"}, "counts[2]": {"7"}, "counts[3]": {"5"}, "counts[4]": {""}}
+	if r, body := g.post(g.qpath(0, g.qc)+"/save", f); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("chips with empty bins: %d %s", r.StatusCode, shownError(body, "f-counts-0"))
+	}
+	_, body := g.post(g.qpath(0, g.qc)+"/save", url.Values{"counts[1]": {"8"}, "counts[2]": {"7"}})
+	if !strings.Contains(body, "Put chips in at least three bins") {
+		t.Error("the spread rule is not a sentence")
+	}
+	if _, page := g.get(g.qpath(0, g.qc)); !strings.Contains(page, `class="chips-board" data-chips="20"`) || !strings.Contains(page, `inputmode="numeric"`) {
+		t.Error("the chips page lacks its board or a numeric keypad")
+	}
+}
+
+// A first answer asks for the expert's reasoning, later ones why they
+// revised; after a save the page leads to the next unanswered question;
+// the caution is full on the home page and folded on question pages.
+func TestExpertPageWording(t *testing.T) {
+	g := newExpertRig(t)
+	_, page := g.get(g.qpath(0, g.q))
+	if !strings.Contains(page, "Your reasoning (optional)") || strings.Contains(page, "Reason for this revision") {
+		t.Error("a first answer is not asked for the expert's reasoning")
+	}
+	if !strings.Contains(page, `maxlength="4000"`) {
+		t.Error("the reasoning box does not show its limit")
+	}
+	if !strings.Contains(page, `<details class="banner banner-caution caution-folded">`) {
+		t.Error("the question page does not fold the caution")
+	}
+	if _, home := g.get("/e/" + g.tokens[0] + "/"); !strings.Contains(home, `<aside class="banner banner-caution"`) {
+		t.Error("the home page does not show the caution in full")
+	}
+	r, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.02", "0.05", "0.12"))
+	_, page = g.get(r.Header.Get("Location"))
+	if !strings.Contains(page, "Why you revised, or your reasoning (optional)") {
+		t.Error("after a first answer the box is not about revising")
+	}
+	if !strings.Contains(page, "Next: Question 2: Scoring share →") || !strings.Contains(page, `href="`+g.qpath(0, g.qi)+`"`) {
+		t.Error("no link to the next unanswered question after saving")
+	}
+}
+
+// A link that leads nowhere says to ask the facilitator for a new one.
+func TestDeadLinkSaysWhatToDo(t *testing.T) {
+	g := newExpertRig(t)
+	if err := g.db.RevokeExpert(context.Background(), g.experts[0].ID, "left"); err != nil {
+		t.Fatal(err)
+	}
+	for _, path := range []string{"/e/" + g.tokens[0] + "/", "/e/not-a-token/"} {
+		code, body := g.get(path)
+		if code != http.StatusNotFound || !strings.Contains(body, "Please ask the facilitator for your current link.") {
+			t.Errorf("%s: %d", path, code)
+		}
+	}
+}

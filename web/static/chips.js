@@ -1,0 +1,159 @@
+// Chips you can place. Progressive enhancement: without this script the
+// form is a column of boxes, one per bin, and an empty box holds no chips.
+//
+// With it, the boxes are drawn as a board: one column per bin over the
+// question's range, a stack of chips in each that grows and shrinks as
+// chips are placed and taken away, and the count of chips left. A chip
+// is placed by tapping or clicking the column (or its + button) and taken
+// away by tapping a chip (or the − button). By keyboard: Tab reaches each
+// column; + or ↑ places a chip, − or ↓ takes one away, ← and → move to the
+// neighbouring bin. Each change is announced. The boxes stay the form's
+// values, so saving, the live preview and the plain form are unchanged.
+(function () {
+  "use strict";
+  var board = document.querySelector(".chips-board");
+  if (!board) { return; }
+  var form = board.closest("form");
+  var inputs = Array.prototype.slice.call(form.querySelectorAll(".chip-field input"));
+  if (!inputs.length) { return; }
+  var total = parseInt(board.getAttribute("data-chips"), 10) || 0;
+  var readonly = board.hasAttribute("data-readonly");
+  var labels = inputs.map(function (inp) {
+    var l = form.querySelector('label[for="' + inp.id + '"]');
+    return l ? l.textContent.replace(/^Chips /, "") : inp.name;
+  });
+
+  function count(i) {
+    var n = parseInt(inputs[i].value, 10);
+    return isNaN(n) || n < 0 ? 0 : n;
+  }
+  function placed() {
+    var s = 0;
+    for (var i = 0; i < inputs.length; i++) { s += count(i); }
+    return s;
+  }
+
+  var status = document.createElement("p");
+  status.className = "chips-status";
+  status.setAttribute("aria-live", "polite");
+  var grid = document.createElement("div");
+  grid.className = "chips-grid";
+  grid.setAttribute("role", "group");
+  grid.setAttribute("aria-label", "Your chips, one column per range of values");
+  grid.setAttribute("aria-describedby", "chips-hint");
+  var columns = [];
+
+  inputs.forEach(function (inp, i) {
+    var col = document.createElement("div");
+    col.className = "chips-bin";
+    col.tabIndex = i === 0 ? 0 : -1;
+    col.setAttribute("role", "spinbutton");
+    col.setAttribute("aria-valuemin", "0");
+    col.setAttribute("aria-valuemax", String(total));
+    col.setAttribute("aria-label", "Chips " + labels[i]);
+    var stack = document.createElement("div");
+    stack.className = "chips-stack";
+    var buttons = document.createElement("div");
+    buttons.className = "chips-buttons";
+    var add = document.createElement("button");
+    add.type = "button";
+    add.className = "chips-add";
+    add.textContent = "+";
+    add.setAttribute("aria-label", "Place a chip " + labels[i]);
+    add.tabIndex = -1;
+    var take = document.createElement("button");
+    take.type = "button";
+    take.className = "chips-take";
+    take.textContent = "−";
+    take.setAttribute("aria-label", "Take a chip away " + labels[i]);
+    take.tabIndex = -1;
+    buttons.appendChild(take);
+    buttons.appendChild(add);
+    var edge = document.createElement("span");
+    edge.className = "chips-range";
+    edge.textContent = labels[i].replace(/^from /, "").replace(" to ", "–");
+    edge.setAttribute("aria-hidden", "true");
+    col.appendChild(stack);
+    if (!readonly) { col.appendChild(buttons); }
+    col.appendChild(edge);
+    grid.appendChild(col);
+    columns.push({ col: col, stack: stack, add: add, take: take });
+
+    if (readonly) { return; }
+    add.addEventListener("click", function (ev) { ev.stopPropagation(); change(i, +1); });
+    take.addEventListener("click", function (ev) { ev.stopPropagation(); change(i, -1); });
+    stack.addEventListener("click", function (ev) {
+      // A chip taps away; the empty space above places one.
+      if (ev.target && ev.target.classList.contains("chip")) { change(i, -1); } else { change(i, +1); }
+    });
+    col.addEventListener("keydown", function (ev) {
+      switch (ev.key) {
+        case "+": case "=": case "ArrowUp": change(i, +1); break;
+        case "-": case "ArrowDown": change(i, -1); break;
+        case "ArrowRight": move(i, +1); break;
+        case "ArrowLeft": move(i, -1); break;
+        case "Home": move(i, -i); break;
+        case "End": move(i, inputs.length - 1 - i); break;
+        default: return;
+      }
+      ev.preventDefault();
+    });
+  });
+
+  function move(i, d) {
+    var j = Math.max(0, Math.min(inputs.length - 1, i + d));
+    columns[i].col.tabIndex = -1;
+    columns[j].col.tabIndex = 0;
+    columns[j].col.focus();
+  }
+
+  function change(i, d) {
+    var n = count(i) + d;
+    if (n < 0) { return say("No chips " + labels[i] + " to take away."); }
+    if (d > 0 && placed() >= total) { return say("All " + total + " chips are placed. Take one away first."); }
+    inputs[i].value = n === 0 ? "" : String(n);
+    inputs[i].dispatchEvent(new Event("input", { bubbles: true }));
+    draw();
+    var left = total - placed();
+    say(n + " " + (n === 1 ? "chip " : "chips ") + labels[i] + ". " + left + " left to place.");
+  }
+
+  function say(text) { status.textContent = text; }
+
+  function draw() {
+    var most = 1;
+    for (var i = 0; i < inputs.length; i++) { most = Math.max(most, count(i)); }
+    // Chips shrink when a stack would grow past the board's height.
+    var size = Math.max(4, Math.min(14, Math.floor(150 / most)));
+    columns.forEach(function (c, i) {
+      var n = count(i);
+      while (c.stack.children.length > n) { c.stack.removeChild(c.stack.lastChild); }
+      while (c.stack.children.length < n) {
+        var chip = document.createElement("span");
+        chip.className = "chip";
+        chip.setAttribute("aria-hidden", "true");
+        c.stack.appendChild(chip);
+      }
+      Array.prototype.forEach.call(c.stack.children, function (chip) { chip.style.height = size + "px"; });
+      c.col.setAttribute("aria-valuenow", String(n));
+      c.col.setAttribute("aria-valuetext", n + (n === 1 ? " chip " : " chips ") + labels[i]);
+    });
+    var left = total - placed();
+    board.setAttribute("data-left", String(left));
+    counter.textContent = left >= 0
+      ? placed() + " of " + total + " chips placed, " + left + " left"
+      : placed() + " chips placed: " + (-left) + " more than the " + total + " allowed";
+  }
+
+  var counter = document.createElement("p");
+  counter.className = "chips-counter";
+  board.appendChild(counter);
+  board.appendChild(grid);
+  board.appendChild(status);
+  board.hidden = false;
+  form.classList.add("chips-enhanced");
+  // Typing in a box (still there for screen readers that prefer it)
+  // redraws the board too.
+  inputs.forEach(function (inp) { inp.addEventListener("input", draw); });
+  draw();
+})();
