@@ -727,7 +727,7 @@ func addExpert(t *testing.T, fac *person, wsURL, name, affiliation string) strin
 const livePreviewWait = 10 * time.Second
 
 // previewCircles is the selector of the stated points in the fit preview.
-const previewCircles = `#preview svg circle.stated`
+const previewCircles = `#preview svg.chart-wide circle.stated`
 
 // openQuestion follows the link to question n (1-based) from the
 // expert's home page.

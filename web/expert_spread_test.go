@@ -32,14 +32,14 @@ func TestLargePanelDrawsSpread(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, page := g.get(g.qpath(0, g.q))
-	if n := strings.Count(page, `class="spread-interval"`); n != 200 {
+	if n := strings.Count(wideOnly(page), `class="spread-interval"`); n != 200 {
 		t.Errorf("%d intervals in the spread, want 200 (every other expert)", n)
 	}
 	start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")
 	if start < 0 || end < start {
 		t.Fatal("no panel section before the history")
 	}
-	if n := strings.Count(page[start:end], "curve-cdf curve-expert"); n != 1 {
+	if n := strings.Count(wideOnly(page[start:end]), "curve-cdf curve-expert"); n != 1 {
 		t.Errorf("%d expert CDF curves, want 1 (the asking expert's own)", n)
 	}
 	for _, want := range []string{`data-label="You"`, "Equal-weight pool", "The other 200 experts&#39; medians run from"} {

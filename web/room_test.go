@@ -15,7 +15,7 @@ var legendLabel = regexp.MustCompile(`class="legend-label"[^>]*>(Expert [A-Z]+|Y
 // legendLabels are the curve labels in a page's panel legend.
 func legendLabels(body string) []string {
 	var out []string
-	for _, m := range legendLabel.FindAllStringSubmatch(body, -1) {
+	for _, m := range legendLabel.FindAllStringSubmatch(wideOnly(body), -1) {
 		out = append(out, m[1])
 	}
 	return out

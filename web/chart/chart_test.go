@@ -377,28 +377,30 @@ func TestPercentileLabelsDoNotOverlap(t *testing.T) {
 	for _, d := range []elicit.ScaledBeta{sbeta(1.5, 6.65, 0, 1), sbeta(0.5, 40, 0, 1), sbeta(0.3, 0.3, 0, 1), sbeta(4.2, 17.9, 0, 1)} {
 		m := newFitModel(fitViewOf(d))
 		type span struct{ lo, hi float64 }
-		rows := map[string][]span{}
-		for _, k := range m.Marks {
-			x, _ := strconv.ParseFloat(k.LabelX, 64)
-			w := labelWidth(k.Label)
-			var sp span
-			switch k.Anchor {
-			case "start":
-				sp = span{x, x + w}
-			case "end":
-				sp = span{x - w, x}
-			default:
-				sp = span{x - w/2, x + w/2}
-			}
-			if sp.lo < 0 || sp.hi > twinLeft+twinPlotW+30 {
-				t.Errorf("Beta(%v, %v): label %q runs off the picture", d.Alpha, d.Beta.Beta, k.Label)
-			}
-			for _, o := range rows[k.LabelY] {
-				if sp.lo < o.hi && o.lo < sp.hi {
-					t.Errorf("Beta(%v, %v): label %q overlaps another on its row", d.Alpha, d.Beta.Beta, k.Label)
+		for _, dr := range m.Drawings {
+			rows := map[string][]span{}
+			for _, k := range dr.Marks {
+				x, _ := strconv.ParseFloat(k.LabelX, 64)
+				w := labelWidth(k.Label)
+				var sp span
+				switch k.Anchor {
+				case "start":
+					sp = span{x, x + w}
+				case "end":
+					sp = span{x - w, x}
+				default:
+					sp = span{x - w/2, x + w/2}
 				}
+				if sp.lo < 0 || sp.hi > dr.Twin.Layout.width() {
+					t.Errorf("Beta(%v, %v), %s: label %q runs off the picture", d.Alpha, d.Beta.Beta, dr.Twin.Layout.Name, k.Label)
+				}
+				for _, o := range rows[k.LabelY] {
+					if sp.lo < o.hi && o.lo < sp.hi {
+						t.Errorf("Beta(%v, %v): label %q overlaps another on its row", d.Alpha, d.Beta.Beta, k.Label)
+					}
+				}
+				rows[k.LabelY] = append(rows[k.LabelY], sp)
 			}
-			rows[k.LabelY] = append(rows[k.LabelY], sp)
 		}
 	}
 }

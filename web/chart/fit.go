@@ -46,13 +46,19 @@ type fitRow struct {
 	Chance, Stated, Fitted, FittedChance string
 }
 
+// fitDrawing is one layout of a Fit picture.
+type fitDrawing struct {
+	ID     string // prefixes the SVG's aria ids
+	Twin   twinGeom
+	Points []pointGeom
+	Marks  []markGeom
+}
+
 type fitModel struct {
-	ID      string
-	Twin    twinGeom
-	Title   string
+	ID       string
+	Drawings []fitDrawing // wide, then compact
+	Title    string
 	Desc    string
-	Points  []pointGeom
-	Marks   []markGeom
 	Rows    []fitRow
 	Pcts    [3]string
 	Params  string
@@ -86,17 +92,20 @@ func newFitModel(v FitView) fitModel {
 		xs = append(xs, p.X)
 	}
 	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist}
-	g := newTwin(v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true)
-	m.Twin = g
-
+	for i, lay := range layouts {
+		d := fitDrawing{ID: m.ID, Twin: newTwin(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true)}
+		if i > 0 {
+			d.ID += "-" + lay.Name
+		}
+		d.Points = fitPoints(v, d.Twin)
+		d.Marks = fitMarks(v, d.Twin)
+		m.Drawings = append(m.Drawings, d)
+	}
+	g := m.Drawings[0].Twin
 	for _, p := range v.Points {
 		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
 			continue
 		}
-		m.Points = append(m.Points, pointGeom{
-			CX: coord(g.cumul.px(p.X)), CY: coord(g.cumul.py(p.P)),
-			X: fmt.Sprint(p.X), P: fmt.Sprint(p.P),
-		})
 		m.Rows = append(m.Rows, fitRow{
 			Chance:       FormatPercent(p.P),
 			Stated:       FormatValue(p.X),
@@ -104,25 +113,51 @@ func newFitModel(v FitView) fitModel {
 			FittedChance: FormatPercent(v.Dist.CDF(p.X)),
 		})
 	}
-
-	names := [3]string{"5%", "median", "95%"}
-	// Labels sit on one of two rows above the plot; a label moves up a
-	// row when it would overlap the one before it on the lower row.
-	rowEnd := [2]float64{-1e9, -1e9}
 	for i, x := range v.Percentiles {
 		m.Pcts[i] = FormatValue(x)
+	}
+
+	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatValue(v.Dist.Alpha), FormatValue(v.Dist.Beta.Beta))
+	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
+	m.Desc = fitDescription(v, m, g)
+	return m
+}
+
+// fitPoints places the stated points on the cumulative plot of g.
+func fitPoints(v FitView, g twinGeom) []pointGeom {
+	var out []pointGeom
+	for _, p := range v.Points {
+		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
+			continue
+		}
+		out = append(out, pointGeom{
+			CX: coord(g.cumul.px(p.X)), CY: coord(g.cumul.py(p.P)),
+			X: fmt.Sprint(p.X), P: fmt.Sprint(p.P),
+		})
+	}
+	return out
+}
+
+// fitMarks places the fitted 5%, median and 95% lines and their labels.
+// Labels sit on one of two rows above the plot; a label moves up a row
+// when it would overlap the one before it on the lower row, and a label
+// near an edge is anchored to stay inside the picture.
+func fitMarks(v FitView, g twinGeom) []markGeom {
+	var out []markGeom
+	names := [3]string{"5%", "median", "95%"}
+	rowEnd := [2]float64{-1e9, -1e9}
+	for i, x := range v.Percentiles {
 		if !isFinite(x) || x < g.X0 || x > g.X1 {
 			continue
 		}
 		px := g.dens.px(x)
 		label := names[i] + " " + formatSig(x, 3)
 		w := labelWidth(label)
-		// Keep labels near the plot's edges inside the picture.
 		anchor, left := "middle", px-w/2
 		switch {
-		case px-g.dens.Left < w/2:
+		case px-w/2 < 2:
 			anchor, left = "start", px-4
-		case g.dens.right()-px < w/2:
+		case px+w/2 > g.Layout.width()-2:
 			anchor, left = "end", px+4-w
 		}
 		row := 0
@@ -137,17 +172,13 @@ func newFitModel(v FitView) fitModel {
 		case "end":
 			lx = px + 4
 		}
-		m.Marks = append(m.Marks, markGeom{
+		out = append(out, markGeom{
 			X: coord(px), Top: coord(g.dens.Top), Bottom: coord(g.cumul.bottom()),
 			LabelX: coord(lx), Anchor: anchor,
-			LabelY: coord(g.dens.Top - 8 - 14*float64(row)), Label: label, Value: fmt.Sprint(x),
+			LabelY: coord(g.dens.Top - 8 - 15*float64(row)), Label: label, Value: fmt.Sprint(x),
 		})
 	}
-
-	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatValue(v.Dist.Alpha), FormatValue(v.Dist.Beta.Beta))
-	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
-	m.Desc = fitDescription(v, m, g)
-	return m
+	return out
 }
 
 // fitDescription says in words what the picture shows, for the caption and
@@ -171,6 +202,6 @@ func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	return strings.TrimSpace(b.String())
 }
 
-// labelWidth estimates the drawn width of a 12px bold label: about 7px a
-// character in the system sans-serif fonts.
-func labelWidth(s string) float64 { return 7 * float64(len([]rune(s))) }
+// labelWidth estimates the drawn width of a 13px bold label: about 7.5px
+// a character in the system sans-serif fonts.
+func labelWidth(s string) float64 { return 7.5 * float64(len([]rune(s))) }

@@ -108,14 +108,11 @@ func coordShift(c string, d float64) string {
 	return coord(v + d)
 }
 
+
 // dashAttr is the stroke-dasharray value; "none" draws a solid line.
 func dashAttr(d string) string {
 	if d == "" {
 		return "none"
 	}
 	return d
-}
-
-func noteY(g twinGeom, i int) string {
-	return coordShift(g.NoteY, float64(i)*15)
 }

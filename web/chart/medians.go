@@ -28,25 +28,30 @@ type stripDot struct {
 	X, Y, LabelY, Label, Value string
 }
 
-type medianStripModel struct {
-	ID, ViewBox, Title, Desc string
-	AxisY, AxisX1, AxisX2    string
-	Ticks                    []tickGeom
-	TickY                    string
-	BoxX, BoxW, BoxY, BoxH   string
-	MidX                     string
-	Dots                     []stripDot
-	Truth                    *stripDot
-	TruthY1, TruthY2         string
-	Empty                    bool
-	Rows                     []spreadQuartile
+// medianDrawing is the strip in one layout.
+type medianDrawing struct {
+	ID, Layout, ViewBox    string
+	AxisY, AxisX1, AxisX2  string
+	Ticks                  []tickGeom
+	TickY                  string
+	BoxX, BoxW, BoxY, BoxH string
+	MidX                   string
+	Dots                   []stripDot
+	Truth                  *stripDot
+	TruthY1, TruthY2       string
 }
 
-// Layout of the median strip, in viewBox units.
+type medianStripModel struct {
+	ID, Title, Desc string
+	Drawings        []medianDrawing // wide, then compact
+	Empty           bool
+	Rows            []spreadQuartile
+}
+
+// Layout of the median strip, in viewBox units; its width is the
+// layout's.
 const (
-	stripW      = 640.0
-	stripLeft   = 30.0
-	stripRight  = 30.0
+	stripSide   = 30.0
 	stripRowH   = 22.0
 	stripTop    = 30.0
 	stripBottom = 40.0
@@ -71,51 +76,13 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 		pad = math.Max(math.Abs(lo)*0.1, (v.Upper-v.Lower)*0.01)
 	}
 	lo, hi = math.Max(v.Lower, lo-pad), math.Min(v.Upper, hi+pad)
-	ts := ticks(lo, hi, 5)
-	if len(ts) >= 2 {
-		lo, hi = math.Min(lo, ts[0].Value), math.Max(hi, ts[len(ts)-1].Value)
-	}
-	// Dots that would overlap are stacked in rows, lowest median first.
-	order := make([]int, len(v.Medians))
-	for i := range order {
-		order[i] = i
-	}
-	sortByValue(order, v.Medians)
-	f := frame{Left: stripLeft, Width: stripW - stripLeft - stripRight, X0: lo, X1: hi, Y0: 0, Y1: 1}
-	rowEnd := []float64{}
-	rows := make([]int, len(v.Medians))
-	for _, i := range order {
-		x := f.px(v.Medians[i])
-		r := 0
-		for r < len(rowEnd) && x-rowEnd[r] < 64 {
-			r++
+	for i, lay := range layouts {
+		d := medianDrawingFor(lay, v, sp, lo, hi)
+		d.ID = m.ID
+		if i > 0 {
+			d.ID += "-" + lay.Name
 		}
-		if r == len(rowEnd) {
-			rowEnd = append(rowEnd, math.Inf(-1))
-		}
-		rowEnd[r] = x
-		rows[i] = r
-	}
-	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom
-	axisY := h - stripBottom
-	m.ViewBox = "0 0 " + coord(stripW) + " " + coord(h)
-	m.AxisY, m.AxisX1, m.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
-	m.TickY = coord(axisY + 20)
-	for _, t := range ts {
-		m.Ticks = append(m.Ticks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: t.Label})
-	}
-	boxTop := stripTop - 14
-	m.BoxX, m.BoxW = coord(f.px(sp.LowerQuartile)), coord(math.Max(2, f.px(sp.UpperQuartile)-f.px(sp.LowerQuartile)))
-	m.BoxY, m.BoxH = coord(boxTop), coord(axisY-boxTop)
-	m.MidX = coord(f.px(sp.Median))
-	for i, med := range v.Medians {
-		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
-		m.Dots = append(m.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
-			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: FormatValue(med)})
-	}
-	if v.Truth != nil {
-		m.Truth = &stripDot{X: coord(f.px(*v.Truth)), Label: "true value " + FormatValue(*v.Truth), LabelY: coord(stripTop - 18)}
-		m.TruthY1, m.TruthY2 = coord(stripTop-12), coord(axisY)
+		m.Drawings = append(m.Drawings, d)
 	}
 	q := v.Quantity
 	if v.Units != "" {
@@ -136,6 +103,65 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 		{"upper quartile", FormatValue(sp.UpperQuartile)}, {"highest", FormatValue(sp.Highest)},
 	}
 	return m
+}
+
+// medianDrawingFor lays the strip out over [lo, hi] in lay's width.
+func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo, hi float64) medianDrawing {
+	d := medianDrawing{Layout: lay.Name}
+	ts := ticks(lo, hi, lay.XTicks-1)
+	if len(ts) >= 2 {
+		lo, hi = math.Min(lo, ts[0].Value), math.Max(hi, ts[len(ts)-1].Value)
+	}
+	// Dots that would overlap are stacked in rows, lowest median first.
+	order := make([]int, len(v.Medians))
+	for i := range order {
+		order[i] = i
+	}
+	sortByValue(order, v.Medians)
+	w := lay.width()
+	f := frame{Left: stripSide, Width: w - 2*stripSide, X0: lo, X1: hi, Y0: 0, Y1: 1}
+	gap := 64.0 * w / wideLayout.width()
+	rowEnd := []float64{}
+	rows := make([]int, len(v.Medians))
+	for _, i := range order {
+		x := f.px(v.Medians[i])
+		r := 0
+		for r < len(rowEnd) && x-rowEnd[r] < gap {
+			r++
+		}
+		if r == len(rowEnd) {
+			rowEnd = append(rowEnd, math.Inf(-1))
+		}
+		rowEnd[r] = x
+		rows[i] = r
+	}
+	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom
+	axisY := h - stripBottom
+	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
+	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
+	d.TickY = coord(axisY + 20)
+	for _, t := range ts {
+		d.Ticks = append(d.Ticks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: t.Label})
+	}
+	boxTop := stripTop - 14
+	d.BoxX, d.BoxW = coord(f.px(sp.LowerQuartile)), coord(math.Max(2, f.px(sp.UpperQuartile)-f.px(sp.LowerQuartile)))
+	d.BoxY, d.BoxH = coord(boxTop), coord(axisY-boxTop)
+	d.MidX = coord(f.px(sp.Median))
+	for i, med := range v.Medians {
+		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
+		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
+			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: FormatValue(med)})
+	}
+	if v.Truth != nil {
+		tx := f.px(*v.Truth)
+		label := "true value " + FormatValue(*v.Truth)
+		// Keep the label inside the picture.
+		half := labelWidth(label) / 2
+		lx := math.Max(half+2, math.Min(w-half-2, tx))
+		d.Truth = &stripDot{X: coord(tx), Label: label, LabelY: coord(stripTop - 18), Value: coord(lx)}
+		d.TruthY1, d.TruthY2 = coord(stripTop-12), coord(axisY)
+	}
+	return d
 }
 
 // sortByValue sorts the indices idx by vals[idx], ties by index.

@@ -41,6 +41,7 @@ type pathKey struct {
 	dist        elicit.ScaledBeta
 	x0, x1, top float64
 	area        bool
+	layout      string
 }
 
 // paths are a curve's SVG path data in both plots.

@@ -47,11 +47,11 @@ func TestPoolFromComponentsDrawsThePool(t *testing.T) {
 	} {
 		direct := newPanelModel(panelOf(t, false, tt.dists...))
 		summed := newPanelModel(panelOf(t, true, tt.dists...))
-		if direct.Invalid != "" || len(direct.Twin.Lines) != len(tt.dists)+1 {
+		if direct.Invalid != "" || len(direct.Drawings[0].Twin.Lines) != len(tt.dists)+1 {
 			t.Fatalf("%s: panel not drawn: %q", tt.name, direct.Invalid)
 		}
-		for i := range direct.Twin.Lines {
-			d, s := direct.Twin.Lines[i], summed.Twin.Lines[i]
+		for i := range direct.Drawings[0].Twin.Lines {
+			d, s := direct.Drawings[0].Twin.Lines[i], summed.Drawings[0].Twin.Lines[i]
 			if !samePath(d.Density, s.Density) || !samePath(d.Cumul, s.Cumul) {
 				t.Errorf("%s: %s drawn differently from the components:\ndensity %.120s\n     vs %.120s", tt.name, d.Label, d.Density, s.Density)
 			}
@@ -105,11 +105,11 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	if !reflect.DeepEqual(changed, fresh) {
 		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
 	}
-	if changed.Twin.Lines[1].Cumul == first.Twin.Lines[1].Cumul {
+	if changed.Drawings[0].Twin.Lines[1].Cumul == first.Drawings[0].Twin.Lines[1].Cumul {
 		t.Error("the revised expert's curve is the one drawn before the revision")
 	}
 	pool := len(b) // the pool is drawn after the experts
-	if changed.Twin.Lines[pool].Cumul == first.Twin.Lines[pool].Cumul || changed.Twin.Lines[pool].Density == first.Twin.Lines[pool].Density {
+	if changed.Drawings[0].Twin.Lines[pool].Cumul == first.Drawings[0].Twin.Lines[pool].Cumul || changed.Drawings[0].Twin.Lines[pool].Density == first.Drawings[0].Twin.Lines[pool].Density {
 		t.Error("the pool of the revised panel is the pool remembered from before the revision")
 	}
 	if mixSpans.Len() == 0 || mixSamples.Len() == 0 {
@@ -165,8 +165,8 @@ func TestPoolWindowIsShared(t *testing.T) {
 	}
 	mixSamples.Reset()
 	a, b := draw(sbeta(2.1, 8, 0, 1)), draw(sbeta(2.2, 8.3, 0, 1))
-	if a.Twin.X0 != b.Twin.X0 || a.Twin.X1 != b.Twin.X1 {
-		t.Errorf("windows [%v, %v] and [%v, %v] differ for nearly equal own curves", a.Twin.X0, a.Twin.X1, b.Twin.X0, b.Twin.X1)
+	if a.Drawings[0].Twin.X0 != b.Drawings[0].Twin.X0 || a.Drawings[0].Twin.X1 != b.Drawings[0].Twin.X1 {
+		t.Errorf("windows [%v, %v] and [%v, %v] differ for nearly equal own curves", a.Drawings[0].Twin.X0, a.Drawings[0].Twin.X1, b.Drawings[0].Twin.X0, b.Drawings[0].Twin.X1)
 	}
 	if n := mixSamples.Len(); n != 1 {
 		t.Errorf("the pool was sampled for %d windows, want 1", n)

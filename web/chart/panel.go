@@ -34,14 +34,21 @@ type legendGeom struct {
 	Params   string
 }
 
+// panelDrawing is one layout of a Panel picture.
+type panelDrawing struct {
+	ID     string
+	Twin   twinGeom
+	Legend []legendGeom
+}
+
 type panelModel struct {
-	ID      string
-	Twin    twinGeom
-	Title   string
-	Desc    string
-	Legend  []legendGeom
-	Units   string
-	Invalid string
+	ID       string
+	Drawings []panelDrawing // wide, then compact
+	Title    string
+	Desc     string
+	Legend   []legendGeom // the wide drawing's, for the table
+	Units    string
+	Invalid  string
 }
 
 // Panel draws every curve's density and CDF on shared axes, each in its
@@ -66,33 +73,22 @@ func newPanelModel(v PanelView) panelModel {
 		m.Invalid = "No curves to draw yet."
 		return m
 	}
-	g := newTwin(v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false)
-	// The legend sits under the plots in two columns, so the picture keeps
-	// the plots' width and stays legible when a phone shrinks it.
-	legendTop := g.Height + 4
-	colW := (twinPlotW + twinLeft) / 2
+	for i, lay := range layouts {
+		d := panelDrawing{ID: m.ID, Twin: newTwin(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false)}
+		if i > 0 {
+			d.ID += "-" + lay.Name
+		}
+		d.Legend = panelLegend(&d.Twin, curves)
+		m.Drawings = append(m.Drawings, d)
+	}
+	g := m.Drawings[0].Twin
+	m.Legend = m.Drawings[0].Legend
 	var words []string
 	for i, c := range curves {
-		l := g.Lines[i]
-		x := twinLeft/2 + float64(i%2)*colW
-		y := legendTop + float64(i/2)*24
-		lg := legendGeom{
-			Y: coord(y), TextY: coord(y + 5), X1: coord(x), X2: coord(x + 38),
-			TextX: coord(x + 46), Label: c.Label, Role: l.Role,
-			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
-		}
-		p := g.percentiles[i]
-		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
-		if !c.usesFuncs() {
-			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatValue(c.Dist.Alpha), FormatValue(c.Dist.Beta.Beta))
-		}
-		m.Legend = append(m.Legend, lg)
+		lg := m.Legend[i]
 		words = append(words, fmt.Sprintf("%s (%s line): median %s, 90%% between %s and %s",
-			c.Label, l.DashName, lg.P50, lg.P5, lg.P95))
+			c.Label, g.Lines[i].DashName, lg.P50, lg.P5, lg.P95))
 	}
-	g.Height = legendTop + float64((len(curves)+1)/2)*24 + 8
-	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
-	m.Twin = g
 	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
 	var b strings.Builder
 	fmt.Fprintf(&b, "Densities (upper plot) and cumulative probabilities (lower plot) of %s, between the bounds %s and %s. ",
@@ -103,4 +99,34 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	m.Desc = strings.TrimSpace(b.String())
 	return m
+}
+
+// panelLegend lays the legend out under g's plots, in the layout's
+// columns, and makes room for it: the picture keeps the plots' width and
+// its text stays legible when a phone shrinks it.
+func panelLegend(g *twinGeom, curves []Curve) []legendGeom {
+	lay := g.Layout
+	top := g.Height + 4
+	cols := lay.LegendCols
+	colW := lay.width() / float64(cols)
+	var out []legendGeom
+	for i, c := range curves {
+		l := g.Lines[i]
+		x := lay.Left/2 + float64(i%cols)*colW
+		y := top + float64(i/cols)*24
+		lg := legendGeom{
+			Y: coord(y), TextY: coord(y + 5), X1: coord(x), X2: coord(x + 38),
+			TextX: coord(x + 46), Label: c.Label, Role: l.Role,
+			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
+		}
+		p := g.percentiles[i]
+		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
+		if !c.usesFuncs() {
+			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatValue(c.Dist.Alpha), FormatValue(c.Dist.Beta.Beta))
+		}
+		out = append(out, lg)
+	}
+	g.Height = top + float64((len(curves)+cols-1)/cols)*24 + 8
+	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
+	return out
 }

@@ -33,16 +33,23 @@ type spreadQuartile struct {
 	Name, Value string
 }
 
+// spreadStrip is the strip in one layout.
+type spreadStrip struct {
+	ID      string
+	Layout  string
+	ViewBox string
+	Rows    []spreadRow
+	Axis    axesGeom
+	XTicks  []tickGeom
+	XLabelY string
+}
+
 type spreadModel struct {
 	Panel     panelModel
 	ID        string
-	ViewBox   string
+	Strips    []spreadStrip // wide, then compact
 	Title     string
 	Desc      string
-	Rows      []spreadRow
-	Axis      axesGeom
-	XTicks    []tickGeom
-	XLabelY   string
 	Quartiles []spreadQuartile
 }
 
@@ -84,31 +91,21 @@ func newSpreadModel(v SpreadView) spreadModel {
 		return m
 	}
 	sort.SliceStable(iv, func(i, j int) bool { return iv[i].p50 < iv[j].p50 })
-	x0, x1 := v.Lower, v.Upper
-	if m.Panel.Invalid == "" {
-		x0, x1 = m.Panel.Twin.X0, m.Panel.Twin.X1
+	for i, lay := range layouts {
+		var curves *twinGeom
+		if m.Panel.Invalid == "" {
+			curves = &m.Panel.Drawings[i].Twin
+		}
+		st, ok := newStrip(lay, v, curves, len(iv), func(k int) (float64, float64, float64) { return iv[k].p5, iv[k].p50, iv[k].p95 })
+		if !ok {
+			return m
+		}
+		st.ID = m.ID
+		if i > 0 {
+			st.ID += "-" + lay.Name
+		}
+		m.Strips = append(m.Strips, st)
 	}
-	if !(x1 > x0) {
-		x0, x1 = v.Lower, v.Upper
-	}
-	if !(x1 > x0) {
-		return m
-	}
-	f := frame{Left: twinLeft, Top: spreadPad, Width: twinPlotW, Height: float64(len(iv))*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
-	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
-	for i, r := range iv {
-		y := f.Top + spreadPad/2 + float64(i)*spreadRowH*2
-		m.Rows = append(m.Rows, spreadRow{X1: clampX(r.p5), X2: clampX(r.p95), Y: coord(y), Dot: clampX(r.p50)})
-	}
-	m.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-spread", YTitle: "experts"}
-	tx, ty := twinLeft-20, f.Top+f.Height/2
-	m.Axis.YTitleX, m.Axis.YTitleY = coord(tx), coord(ty)
-	m.Axis.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
-	// The strip shares the curves' x axis (same left edge, width and
-	// window), so their ticks fall in the same columns.
-	m.XTicks = m.Panel.Twin.XTicks
-	m.XLabelY = coord(f.bottom() + 16)
-	m.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(f.bottom()+26)
 	medians := make([]float64, len(iv))
 	for i, r := range iv {
 		medians[i] = r.p50
@@ -134,4 +131,39 @@ func newSpreadModel(v SpreadView) spreadModel {
 		"The other %d %s medians run from %s to %s; half of them lie between %s and %s.",
 		len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
 	return m
+}
+
+// newStrip lays out n intervals (the k-th's 5th, 50th and 95th
+// percentiles from at) under the curves' plots in lay, sharing their x
+// axis (same left edge, width and window) so the ticks fall in the same
+// columns.
+func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) (p5, p50, p95 float64)) (spreadStrip, bool) {
+	x0, x1 := v.Lower, v.Upper
+	if curves != nil {
+		x0, x1 = curves.X0, curves.X1
+	}
+	if !(x1 > x0) {
+		x0, x1 = v.Lower, v.Upper
+	}
+	if !(x1 > x0) {
+		return spreadStrip{}, false
+	}
+	st := spreadStrip{Layout: lay.Name}
+	f := frame{Left: lay.Left, Top: spreadPad, Width: lay.PlotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
+	for k := 0; k < n; k++ {
+		p5, p50, p95 := at(k)
+		y := f.Top + spreadPad/2 + float64(k)*spreadRowH*2
+		st.Rows = append(st.Rows, spreadRow{X1: clampX(p5), X2: clampX(p95), Y: coord(y), Dot: clampX(p50)})
+	}
+	st.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-spread", YTitle: "experts"}
+	tx, ty := lay.Left*5/7, f.Top+f.Height/2
+	st.Axis.YTitleX, st.Axis.YTitleY = coord(tx), coord(ty)
+	st.Axis.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
+	if curves != nil {
+		st.XTicks = curves.XTicks
+	}
+	st.XLabelY = coord(f.bottom() + 16)
+	st.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(f.bottom()+26)
+	return st, true
 }

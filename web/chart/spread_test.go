@@ -50,8 +50,8 @@ func TestSpreadStructure(t *testing.T) {
 	for i, r := range rows {
 		x1, x2, y, dot, cy := num(r[1]), num(r[2]), num(r[3]), num(r[4]), num(r[5])
 		for _, x := range []float64{x1, x2, dot} {
-			if x < twinLeft || x > twinLeft+twinPlotW {
-				t.Errorf("row %d: x %v outside the plot [%v, %v]", i, x, twinLeft, twinLeft+twinPlotW)
+			if x < wideLayout.Left || x > wideLayout.Left+wideLayout.PlotW {
+				t.Errorf("row %d: x %v outside the plot [%v, %v]", i, x, wideLayout.Left, wideLayout.Left+wideLayout.PlotW)
 			}
 		}
 		if !(x1 <= dot && dot <= x2) {

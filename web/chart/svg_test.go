@@ -40,13 +40,26 @@ func (n node) num(t *testing.T, attr string) float64 {
 	return v
 }
 
+// render draws c with only its wide layout, the one the structural
+// tests read; renderLayout keeps the named layout instead.
 func render(t *testing.T, c templ.Component) string {
+	t.Helper()
+	return renderLayout(t, c, "wide")
+}
+
+// renderLayout draws c and keeps, of its pictures, only those drawn in
+// the named layout ("wide" or "compact").
+func renderLayout(t *testing.T, c templ.Component, keep string) string {
 	t.Helper()
 	var b bytes.Buffer
 	if err := c.Render(context.Background(), &b); err != nil {
 		t.Fatalf("render: %v", err)
 	}
-	return b.String()
+	drop := "compact"
+	if keep == "compact" {
+		drop = "wide"
+	}
+	return regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-`+drop+`".*?</svg>`).ReplaceAllString(b.String(), "")
 }
 
 // parse reads rendered HTML as XML (templ writes every element closed and

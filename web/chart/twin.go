@@ -10,15 +10,39 @@ import (
 // cumulative plot on one x axis. Fit and Panel both draw through it, so
 // there is one way curves become pixels.
 
-// Pixel layout of a twin, in SVG user units (the SVG scales to its box).
+// A twin is drawn in two layouts, each an SVG of its own, and the page's
+// stylesheet shows the one that suits the screen: wide for a laptop or a
+// projector, compact for a phone, where the SVG is drawn at about its own
+// size so that its text stays at least 11 px without the picture being
+// cut or scrolled. Both share the samples (they are remembered by curve
+// and window), so the second costs only its path strings.
+type layout struct {
+	Name                                               string // "wide" or "compact": the SVG's class is "chart-" + Name
+	Left, PlotW, Right, Top, DensityH, Gap, CDFH, Below float64
+	XTicks                                             int     // about this many x ticks
+	LegendCols                                         int     // legend columns under a panel
+	NoteChars                                          int     // characters per line of a note before it wraps
+	NoteLine                                           float64 // a note line's height
+	NoteX                                              float64 // where notes start
+	TitleChars                                         int     // characters per line of the x axis's title
+}
+
+// width is the layout's viewBox width.
+func (l layout) width() float64 { return l.Left + l.PlotW + l.Right }
+
+var (
+	// wideLayout is the picture at a desk or on a projector.
+	wideLayout = layout{Name: "wide", Left: 70, PlotW: 540, Right: 30, Top: 34, DensityH: 140, Gap: 36, CDFH: 170, Below: 60,
+		XTicks: 6, LegendCols: 2, NoteChars: 92, NoteLine: 15, NoteX: 70, TitleChars: 72}
+	// compactLayout is 360 units wide, about a phone's width, with fewer
+	// ticks, the legend in one column and notes wrapped.
+	compactLayout = layout{Name: "compact", Left: 54, PlotW: 288, Right: 18, Top: 44, DensityH: 108, Gap: 30, CDFH: 128, Below: 62,
+		XTicks: 4, LegendCols: 1, NoteChars: 44, NoteLine: 17, NoteX: 8, TitleChars: 40}
+	// layouts are both, in the order the page carries them.
+	layouts = [...]layout{wideLayout, compactLayout}
+)
+
 const (
-	twinLeft     = 70.0
-	twinPlotW    = 540.0
-	twinTop      = 34.0
-	twinDensityH = 140.0
-	twinGap      = 36.0
-	twinCDFH     = 170.0
-	twinBelow    = 60.0 // tick labels and axis title; each note adds a line
 	// gridPoints is the number of straight pieces each curve is drawn
 	// with across the plot's 540 units (2.7 units each). A lone curve's
 	// window spans its 0.1–99.9% range plus margins, about 8 standard
@@ -29,7 +53,6 @@ const (
 	// curve in a panel 40 σ wide strays under 1%. Each point costs one
 	// incomplete-beta evaluation, the bulk of drawing a fit preview.
 	gridPoints    = 200
-	xTickTarget   = 6
 	densityTicksN = 4
 )
 
@@ -66,6 +89,7 @@ type lineGeom struct {
 }
 
 type twinGeom struct {
+	Layout      layout
 	ViewBox     string
 	Height      float64
 	Density     axesGeom
@@ -73,10 +97,13 @@ type twinGeom struct {
 	XTicks      []tickGeom
 	XLabelY     string
 	XTitle      string
+	XTitleLines []noteLine // the x title, wrapped to the layout's width
 	XTitleX     string
 	XTitleY     string
+	NoteX       string
 	Lines       []lineGeom
-	Notes       []string // what the axes leave out, in words
+	Notes       []string   // what the axes leave out, in words
+	NoteLines   []noteLine // the notes as drawn, wrapped to the layout's width
 	NoteY       string
 	ClippedBy   []string // labels of curves cut at the density axis's top
 	DensityTop  float64
@@ -97,10 +124,14 @@ func axisTitle(quantity, units string) string {
 	return q
 }
 
-// newTwin lays out curves over [lower, upper]. Extra x values (stated
-// points) are kept inside the window. extraHeight adds rows below, for
-// a legend drawn by the caller.
-func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
+// noteLine is one drawn line of the notes under a twin.
+type noteLine struct {
+	Text, Y string
+}
+
+// newTwin lays out curves over [lower, upper] in layout lay. Extra x
+// values (stated points) are kept inside the window.
+func newTwin(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
 	sp := make([]curveSpan, len(curves))
 	var tails [][2]float64
 	for i, c := range curves {
@@ -116,9 +147,9 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 			break
 		}
 	}
-	g := twinGeom{X0: x0, X1: x1}
-	dens := frame{Left: twinLeft, Top: twinTop, Width: twinPlotW, Height: twinDensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
-	cumul := frame{Left: twinLeft, Top: twinTop + twinDensityH + twinGap, Width: twinPlotW, Height: twinCDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	g := twinGeom{Layout: lay, X0: x0, X1: x1}
+	dens := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.DensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	cumul := frame{Left: lay.Left, Top: lay.Top + lay.DensityH + lay.Gap, Width: lay.PlotW, Height: lay.CDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	xs := dens.grid(gridPoints)
 	ys := make([]sampled, len(curves))
 	for i, c := range curves {
@@ -168,7 +199,7 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		if c.usesFuncs() {
 			p = draw()
 		} else {
-			p = drawn.Get(pathKey{c.Dist, x0, x1, top, area}, draw)
+			p = drawn.Get(pathKey{c.Dist, x0, x1, top, area, lay.Name}, draw)
 		}
 		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: p.density, Cumul: p.cumul, Area: p.area,
 			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
@@ -179,20 +210,30 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		}
 	}
 
-	for _, t := range ticks(x0, x1, xTickTarget) {
+	for _, t := range ticks(x0, x1, lay.XTicks) {
 		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: t.Label, Value: t.Label})
 	}
-	g.Density = yAxes(dens, ticks(0, top, densityTicksN), "density", "chart-density")
+	g.Density = yAxes(lay, dens, ticks(0, top, densityTicksN), "density", "chart-density")
 	var pt []tick
 	for _, p := range []float64{0, 0.25, 0.5, 0.75, 1} {
 		pt = append(pt, tick{Value: p, Label: FormatPercent(p)})
 	}
-	g.Cumul = yAxes(cumul, pt, "chance below", "chart-cdf")
+	g.Cumul = yAxes(lay, cumul, pt, "chance below", "chart-cdf")
 	g.XLabelY = coord(cumul.bottom() + 18)
 	g.XTitle = axisTitle(quantity, units)
 	g.XTitleX = coord(cumul.Left + cumul.Width/2)
 	g.XTitleY = coord(cumul.bottom() + 42)
-	g.NoteY = coord(cumul.bottom() + 64)
+	titleLines := wrapWords(g.XTitle, lay.TitleChars)
+	for i, line := range titleLines {
+		g.XTitleLines = append(g.XTitleLines, noteLine{Text: line, Y: coord(cumul.bottom() + 42 + 17*float64(i))})
+	}
+	if len(titleLines) > 1 {
+		// A title wrapped under a narrow plot is centred on the picture.
+		g.XTitleX = coord(lay.width() / 2)
+	}
+	extraTitle := 17 * float64(max(0, len(titleLines)-1))
+	g.NoteY = coord(cumul.bottom() + 64 + extraTitle)
+	g.NoteX = coord(lay.NoteX)
 	g.dens, g.cumul = dens, cumul
 
 	switch {
@@ -210,9 +251,38 @@ func newTwin(quantity, units string, lower, upper float64, curves []Curve, extra
 		g.Notes = append(g.Notes, fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.",
 			formatSig(top, 3), strings.Join(g.ClippedBy, ", ")))
 	}
-	g.Height = cumul.bottom() + twinBelow + 15*float64(len(g.Notes))
-	g.ViewBox = "0 0 " + coord(twinLeft+twinPlotW+30) + " " + coord(g.Height)
+	y := cumul.bottom() + 64 + extraTitle
+	for _, n := range g.Notes {
+		for _, line := range wrapWords(n, lay.NoteChars) {
+			g.NoteLines = append(g.NoteLines, noteLine{Text: line, Y: coord(y)})
+			y += lay.NoteLine
+		}
+	}
+	g.Height = cumul.bottom() + lay.Below + extraTitle + lay.NoteLine*float64(len(g.NoteLines))
+	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
 	return g
+}
+
+// wrapWords breaks s into lines of at most n characters at spaces; a word
+// longer than n has a line of its own.
+func wrapWords(s string, n int) []string {
+	var lines []string
+	line := ""
+	for _, w := range strings.Fields(s) {
+		switch {
+		case line == "":
+			line = w
+		case len([]rune(line))+1+len([]rune(w)) <= n:
+			line += " " + w
+		default:
+			lines = append(lines, line)
+			line = w
+		}
+	}
+	if line != "" {
+		lines = append(lines, line)
+	}
+	return lines
 }
 
 // snapWindow widens [x0, x1] outward to whole multiples of a round step
@@ -280,7 +350,7 @@ func expertIndex(curves []Curve, i int) int {
 	return n
 }
 
-func yAxes(f frame, ts []tick, title, class string) axesGeom {
+func yAxes(lay layout, f frame, ts []tick, title, class string) axesGeom {
 	a := axesGeom{
 		X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height),
 		Right: coord(f.right()), Bottom: coord(f.bottom()),
@@ -289,7 +359,7 @@ func yAxes(f frame, ts []tick, title, class string) axesGeom {
 	for _, t := range ts {
 		a.YTicks = append(a.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: t.Label, Value: t.Label})
 	}
-	tx, ty := f.Left-50, f.Top+f.Height/2
+	tx, ty := f.Left-lay.Left*5/7, f.Top+f.Height/2
 	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
 	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	return a

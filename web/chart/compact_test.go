@@ -1,0 +1,113 @@
+package chart
+
+import (
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/a-h/templ"
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// textWidth estimates a text's drawn width in SVG units at the font size
+// the stylesheet gives its class: about 0.58 of the size a character in
+// the system sans-serif fonts (common practice for layout estimates, no
+// source), the compact layout's sizes from chart.css.
+func textWidth(n node) float64 {
+	size := 14.0
+	switch {
+	case n.hasClass("axis-title"):
+		size = 15
+	case n.hasClass("legend-label"):
+		size = 15
+	case n.hasClass("percentile-label"), n.hasClass("chart-note"):
+		size = 13
+	}
+	return 0.58 * size * float64(len([]rune(strings.TrimSpace(n.Text))))
+}
+
+// TestCompactDrawingsStayInsideTheirBox: every picture's compact drawing,
+// the one a phone shows, keeps each label and marker inside its SVG's
+// box, so a phone never cuts one (issue 12). The browser tests measure
+// the same on real pages.
+func TestCompactDrawingsStayInsideTheirBox(t *testing.T) {
+	pool := func(ds ...elicit.ScaledBeta) Curve {
+		comps := make([]elicit.Component, len(ds))
+		ws := make([]float64, len(ds))
+		for i, d := range ds {
+			comps[i] = elicit.Component{Weight: 1 / float64(len(ds)), Dist: d}
+			ws[i] = 1
+		}
+		p, err := elicit.LinearPool(ds, ws)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return Curve{Label: "Equal-weight pool", Role: RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components}
+	}
+	others := []elicit.ScaledBeta{sbeta(4.2, 17.9, 0, 1), sbeta(2, 30, 0, 1), sbeta(8, 12, 0, 1)}
+	var many []elicit.ScaledBeta
+	for i := 0; i < 40; i++ {
+		many = append(many, sbeta(2+float64(i)/4, 20+float64(i), 0, 1))
+	}
+	cases := []struct {
+		name string
+		c    templ.Component
+	}{
+		{"fit near a bound", Fit(fitViewOf(sbeta(0.7, 30, 0, 1), Point{0.001, 0.05}, Point{0.02, 0.5}, Point{0.09, 0.95}))},
+		{"fit in the middle", Fit(fitViewOf(sbeta(4.2, 17.9, 0, 1), Point{0.06, 0.05}, Point{0.18, 0.5}, Point{0.36, 0.95}))},
+		{"fit near the upper bound", Fit(fitViewOf(sbeta(40, 0.8, 0, 1), Point{0.9, 0.05}, Point{0.98, 0.5}, Point{0.999, 0.95}))},
+		{"fit on a wide scale", Fit(fitViewOf(sbeta(3, 5, 10, 5000), Point{600, 0.1}, Point{1800, 0.5}, Point{3200, 0.9}))},
+		{"panel", Panel(PanelView{ID: "p", Quantity: "first-year failure proportion, HX-40", Units: "proportion of units", Lower: 0, Upper: 1,
+			Curves: []Curve{{Label: "You", Role: RoleExpert, Dist: others[0]}, {Label: "Expert B", Role: RoleExpert, Dist: others[1]},
+				{Label: "Expert C", Role: RoleExpert, Dist: others[2]}, pool(others...)}})},
+		{"spread", Spread(SpreadView{ID: "s", Quantity: "share", Lower: 0, Upper: 1, Curves: []Curve{pool(many...)}, Others: many})},
+		{"median strip", MedianStrip(MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1,
+			Labels: []string{"Expert A", "Expert B", "Expert C"}, Medians: []float64{0.03, 0.0405, 0.05}, Truth: ptr(0.0413)})},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			html := renderLayout(t, c.c, "compact")
+			checkFinite(t, html)
+			pictures := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-compact".*?</svg>`).FindAllString(html, -1)
+			if len(pictures) == 0 {
+				t.Fatal("no compact drawing")
+			}
+			for _, pic := range pictures {
+				ns := parse(t, pic)
+				svg := find(ns, "svg", "chart-compact")[0]
+				f := strings.Fields(svg.Attr["viewBox"])
+				w, _ := strconv.ParseFloat(f[2], 64)
+				h, _ := strconv.ParseFloat(f[3], 64)
+				if w > 362 {
+					t.Errorf("compact drawing %v units wide, want about a phone's 360", w)
+				}
+				for _, n := range find(ns, "text", "") {
+					if n.Attr["transform"] != "" {
+						continue // the rotated y titles sit in the left margin by construction
+					}
+					x, y := n.num(t, "x"), n.num(t, "y")
+					tw := textWidth(n)
+					lo, hi := x-tw/2, x+tw/2
+					switch n.Attr["text-anchor"] {
+					case "start", "":
+						lo, hi = x, x+tw
+					case "end":
+						lo, hi = x-tw, x
+					}
+					if lo < -1 || hi > w+1 || y < 8 || y > h+1 {
+						t.Errorf("text %q at (%v, %v), about %.0f wide, leaves the %v×%v box", n.Text, x, y, tw, w, h)
+					}
+				}
+				for _, n := range find(ns, "circle", "") {
+					cx, cy := n.num(t, "cx"), n.num(t, "cy")
+					if cx < 0 || cx > w || cy < 0 || cy > h {
+						t.Errorf("marker at (%v, %v) leaves the %v×%v box", cx, cy, w, h)
+					}
+				}
+			}
+		})
+	}
+}
+
+func ptr(v float64) *float64 { return &v }
