@@ -58,12 +58,12 @@ type fitModel struct {
 	ID       string
 	Drawings []fitDrawing // wide, then compact
 	Title    string
-	Desc    string
-	Rows    []fitRow
-	Pcts    [3]string
-	Params  string
-	Units   string
-	Invalid string // non-empty when the view cannot be drawn
+	Desc     string
+	Rows     []fitRow
+	Pcts     [3]string
+	Params   string
+	Units    string
+	Invalid  string // non-empty when the view cannot be drawn
 }
 
 // Fit draws the density and CDF of one expert's fitted Beta with their

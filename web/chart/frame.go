@@ -108,7 +108,6 @@ func coordShift(c string, d float64) string {
 	return coord(v + d)
 }
 
-
 // dashAttr is the stroke-dasharray value; "none" draws a solid line.
 func dashAttr(d string) string {
 	if d == "" {

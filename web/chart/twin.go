@@ -17,14 +17,14 @@ import (
 // cut or scrolled. Both share the samples (they are remembered by curve
 // and window), so the second costs only its path strings.
 type layout struct {
-	Name                                               string // "wide" or "compact": the SVG's class is "chart-" + Name
+	Name                                                string // "wide" or "compact": the SVG's class is "chart-" + Name
 	Left, PlotW, Right, Top, DensityH, Gap, CDFH, Below float64
-	XTicks                                             int     // about this many x ticks
-	LegendCols                                         int     // legend columns under a panel
-	NoteChars                                          int     // characters per line of a note before it wraps
-	NoteLine                                           float64 // a note line's height
-	NoteX                                              float64 // where notes start
-	TitleChars                                         int     // characters per line of the x axis's title
+	XTicks                                              int     // about this many x ticks
+	LegendCols                                          int     // legend columns under a panel
+	NoteChars                                           int     // characters per line of a note before it wraps
+	NoteLine                                            float64 // a note line's height
+	NoteX                                               float64 // where notes start
+	TitleChars                                          int     // characters per line of the x axis's title
 }
 
 // width is the layout's viewBox width.
