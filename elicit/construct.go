@@ -77,6 +77,9 @@ type Construction struct {
 	CoverageAchieved float64 `json:"coverage_achieved"`
 	BelowLow         float64 `json:"below_low"`
 	AboveHigh        float64 `json:"above_high"`
+	// Warnings are the shapes a reader should look at twice, with the
+	// codes of a fit's warnings: U- or J-shaped, or near-certainty.
+	Warnings []Warning `json:"warnings"`
 }
 
 // IsInterval reports whether the method is one of the interval methods.
@@ -144,7 +147,7 @@ func Construct(in ConstructionInput) (Construction, error) {
 	if err != nil {
 		return Construction{}, err
 	}
-	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}}
+	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d)}
 	if in.Method.IsInterval() {
 		c.BelowLow = d.CDF(unit(in.Low))
 		c.AboveHigh = d.dist().Survival(unit(in.High))
@@ -205,4 +208,29 @@ func (c Construction) Describe() string {
 		return fmt.Sprintf("central %g%% interval [%g, %g]%s by exact quantile match; it holds %.4g%%", 100*in.Coverage, in.Low, in.High, scale, 100*c.CoverageAchieved)
 	}
 	return string(in.Method)
+}
+
+// constructionWarnings flags a constructed Beta that is U-shaped (α and β
+// below 1), J-shaped (one of them below 1) or worth more than
+// NearCertaintyESS trials, as a fit's warnings do, in words for whoever
+// set the prior.
+func constructionWarnings(d Beta) []Warning {
+	w := []Warning{}
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a < 1 && b < 1:
+		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
+			"This prior is U-shaped (alpha %.3g and beta %.3g are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", a, b)})
+	case a < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"This prior is J-shaped (alpha %.3g is below 1): its density rises without limit towards the lower bound.", a)})
+	case b < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"This prior is J-shaped (beta %.3g is below 1): its density rises without limit towards the upper bound.", b)})
+	}
+	if ess := a + b; ess > NearCertaintyESS {
+		w = append(w, Warning{WarnNearCertainty, fmt.Sprintf(
+			"This prior is worth about %.0f observed trials (alpha+beta above %d): it implies near-certainty. Check that this much certainty is meant.", ess, NearCertaintyESS)})
+	}
+	return w
 }

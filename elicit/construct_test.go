@@ -321,3 +321,36 @@ func TestNewtonRoot(t *testing.T) {
 		t.Errorf("root near 1: %.17g", r)
 	}
 }
+
+// TestConstructWarnings: the shapes a reader should look at twice, with
+// a fit's warning codes. Worked by hand: 0.5 successes in 20 trials is
+// Beta(0.5, 19.5), J-shaped at 0; the 50% interval [0.001, 0.999] needs
+// Beta(0.1025, 0.1025), U-shaped (R agrees: "solved" row); mean 0.5 with
+// sd 0.005 is worth 0.25/0.000025 − 1 = 9999 trials; 3 in 25 is none of
+// these.
+func TestConstructWarnings(t *testing.T) {
+	cases := []struct {
+		in   ConstructionInput
+		want []WarningCode
+	}{
+		{ConstructionInput{Method: MethodEquivalentSample, Successes: 0.5, Trials: 20, Upper: 1}, []WarningCode{WarnJShaped}},
+		{ConstructionInput{Method: MethodIntervalQuantiles, Low: 0.001, High: 0.999, Coverage: 0.5, Upper: 1}, []WarningCode{WarnUShaped}},
+		{ConstructionInput{Method: MethodMeanSD, Mean: 0.5, SD: 0.005, Upper: 1}, []WarningCode{WarnNearCertainty}},
+		{ConstructionInput{Method: MethodEquivalentSample, Successes: 3, Trials: 25, Upper: 1}, nil},
+	}
+	for _, c := range cases {
+		got, err := Construct(c.in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(got.Warnings) != len(c.want) {
+			t.Errorf("%+v: warnings %+v, want %v", c.in, got.Warnings, c.want)
+			continue
+		}
+		for i, w := range got.Warnings {
+			if w.Code != c.want[i] || w.Message == "" {
+				t.Errorf("%+v: warning %+v, want %v", c.in, w, c.want[i])
+			}
+		}
+	}
+}
