@@ -197,6 +197,10 @@ func TestPriorPlanBinary(t *testing.T) {
 		{[]string{"prior", "--successes", "3", "--trials", "25"}, 0, "Beta(3, 22) on [0, 1]"},
 		{[]string{"prior", "--interval", "0.2,0.1", "--coverage", "0.9"}, 2, "interval[1]: " + string(elicit.RuleValueIncreasing)},
 		{[]string{"prior", "--mean", "0.1"}, 2, "--sd: is required with --mean"},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "50", "--format", "json"}, 0, `"predictive"`},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "100", "--threshold", "0.08", "--direction", "below", "--confidence", "0.95"}, 0, "assurance that P(θ < 0.08 | data) ≥ 0.95 after 100 trials"},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "0"}, 2, "trials: " + string(elicit.RuleCountRange)},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "50", "--length", "0.2", "--criterion", "median"}, 2, "criterion: " + string(elicit.RuleUnknown)},
 	}
 	for _, tc := range tests {
 		cmd := exec.Command(bin, tc.args...)
