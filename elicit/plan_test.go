@@ -551,3 +551,37 @@ func TestPredictiveSum(t *testing.T) {
 		}
 	}
 }
+
+// TestCriterionSettleAgrees: the search's early stop, once the outcomes
+// seen prove that an n fails, decides every n as the full sum does, and
+// gives the full value wherever the goal is met.
+func TestCriterionSettleAgrees(t *testing.T) {
+	goals := []SampleSizeGoal{
+		{Criterion: CriterionALC, Interval: IntervalEqual, Level: 0.95, Length: 0.1},
+		{Criterion: CriterionALC, Interval: IntervalHPD, Level: 0.9, Length: 0.08},
+		{Criterion: CriterionACC, Interval: IntervalEqual, Level: 0.95, Length: 0.1},
+		{Criterion: CriterionACC, Interval: IntervalHPD, Level: 0.9, Length: 0.1},
+		{Criterion: CriterionWOC, Interval: IntervalEqual, Level: 0.95, Length: 0.15},
+		{Criterion: CriterionWOC, Interval: IntervalHPD, Level: 0.9, Length: 0.15, Trim: 0.05},
+	}
+	for _, pr := range []Beta{{1, 1}, {2, 38}, {0.5, 0.5}} {
+		for _, g := range goals {
+			for _, n := range []int{1, 5, 40, 100, 250, 400} {
+				full, _, err := criterionAt(pr, g, n, false)
+				if err != nil {
+					t.Fatal(err)
+				}
+				quick, cost, err := criterionAt(pr, g, n, true)
+				if err != nil {
+					t.Fatal(err)
+				}
+				if quick.Met != full.Met || full.Met && quick != full {
+					t.Errorf("%v %+v n %d: settled %+v, full %+v", pr, g, n, quick, full)
+				}
+				if !full.Met && cost > n+1+(n+1)/predictiveCost {
+					t.Errorf("%v %+v n %d: cost %d", pr, g, n, cost)
+				}
+			}
+		}
+	}
+}

@@ -113,7 +113,7 @@ func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&a.criterion, "criterion", "alc", "sample size: alc (average length), acc (average coverage) or woc (worst outcome)")
 	fs.StringVar(&a.interval, "interval", "equal", "sample size: equal (equal-tailed) or hpd (highest posterior density) intervals")
 	fs.StringVar(&a.trim, "woc-trim", "0", "sample size, woc: predictive probability of unlikely outcomes the worst outcome may ignore, in [0, 1)")
-	fs.BoolVar(&a.exhaustive, "exhaustive", false, "sample size: check every n from 1 however long it takes, instead of bisecting beyond the first few hundred")
+	fs.BoolVar(&a.exhaustive, "exhaustive", false, "sample size: check every n from 1 however long it takes, instead of bisecting beyond the first thousand or so")
 	fs.StringVar(&a.format, "format", "text", "output: text or json")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
