@@ -40,7 +40,7 @@ var ErrMatchFailed = errors.New("elicit: the exact quantile match did not conver
 // Rules: low, high and coverage as FromIntervalMoments; a matching Beta
 // with α or β above MaxPriorShape is RuleShapeTooLarge, below
 // MinPriorShape RuleShapeTooSmall, both on the field "interval". Very
-// narrow intervals (Beta(1e6, 1e6)'s 95% interval, width 0.00196) and very
+// narrow intervals (Beta(1e6, 1e6)'s 95% interval, width 0.0014) and very
 // wide ones ([0.001, 0.999] at 50%, a U-shaped Beta) are matched.
 func FromIntervalQuantiles(low, high, coverage float64) (Beta, error) {
 	if err := checkInterval(low, high, coverage); err != nil {
@@ -149,8 +149,8 @@ func (m *quantileMatch) innerLambda(s float64) float64 {
 		}
 		return m.tail - mathext.RegIncBeta(a, b, m.low)
 	}
-	// h falls as the CDF at low rises; bracketFalling wants a falling
-	// function, so search −h.
+	// h rises with logit μ; bracketFalling wants a falling function, so
+	// search −h.
 	neg := func(lambda float64) float64 { return -h(lambda) }
 	lo, hi, flo, fhi, found := bracketFalling(neg, m.lambda, 1, -lambdaLimit, lambdaLimit)
 	if !found {

@@ -29,8 +29,9 @@ const (
 	// width at a coverage and the coverage at a width of these intervals
 	// rise together). "Every outcome" is every x = 0…n, or with Trim > 0
 	// the outcomes left when the least likely ones, of total predictive
-	// probability at most Trim, are set aside (in the spirit of M'Lan,
-	// Joseph & Wolfson's modified WOC, our own definition).
+	// probability at most Trim, are set aside (in the spirit of the
+	// modified worst-outcome criteria of the literature, which ignore
+	// outcomes of small predictive probability; this rule is our own).
 	CriterionWOC Criterion = "woc"
 )
 
