@@ -364,11 +364,19 @@ func writePlanText(w io.Writer, o planOutput) error {
 		if s.Interval == string(elicit.IntervalHPD) {
 			kind = "highest-density"
 		}
-		trim := ""
-		if s.Trim > 0 {
-			trim = fmt.Sprintf(", ignoring unlikely outcomes of total probability %g", s.Trim)
+		var goal string
+		switch s.Criterion {
+		case string(elicit.CriterionALC):
+			goal = fmt.Sprintf("its %s %g%% intervals are on average at most %g wide", kind, 100*s.Level, s.Length)
+		case string(elicit.CriterionACC):
+			goal = fmt.Sprintf("its %s intervals %g wide hold on average at least %g%%", kind, s.Length, 100*s.Level)
+		default:
+			goal = fmt.Sprintf("its %s %g%% intervals are at most %g wide whatever the outcome", kind, 100*s.Level, s.Length)
+			if s.Trim > 0 {
+				goal += fmt.Sprintf(", leaving aside unlikely outcomes of total probability %g", s.Trim)
+			}
 		}
-		fmt.Fprintf(&b, "sample size by %s (%s), %s %g%% intervals, length %g%s: n = %d\n", words[0], s.Criterion, kind, 100*s.Level, s.Length, trim, s.N)
+		fmt.Fprintf(&b, "sample size by %s (%s), the smallest n for which %s: n = %d\n", words[0], s.Criterion, goal, s.N)
 		fmt.Fprintf(&b, "  %s at n = %d: %.4g", words[1], s.N, s.Value)
 		if s.WorstOutcome != nil {
 			fmt.Fprintf(&b, " (the posterior after %d of %d)", *s.WorstOutcome, s.N)

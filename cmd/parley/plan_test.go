@@ -186,7 +186,7 @@ func TestPlanText(t *testing.T) {
 		"successes  probability",
 		"assurance that P(θ < 0.1 | data) ≥ 0.9 after 20 trials",
 		"the study succeeds if it sees at most",
-		"sample size by worst outcome (woc), equal-tailed 95% intervals, length 0.2: n = 1",
+		"sample size by worst outcome (woc), the smallest n for which its equal-tailed 95% intervals are at most 0.2 wide whatever the outcome: n = 1",
 		"warning: the woc criterion is met at n = 1 but fails again at n = 5",
 		"Caution:",
 	} {
