@@ -1,6 +1,7 @@
 package elicit
 
 import (
+	"errors"
 	"fmt"
 	"math"
 
@@ -57,7 +58,16 @@ func EquivalentSample(s, n float64) (Beta, error) {
 	if !(s < n) {
 		return Beta{}, inputErr("successes", RuleBelowTrials, "%v successes in %v trials", s, n)
 	}
-	return NewBeta(s, n-s)
+	d := Beta{Alpha: s, Beta: n - s}
+	switch {
+	case n > MaxPriorShape:
+		return Beta{}, inputErr("trials", RuleShapeTooLarge, "%v imagined trials", n)
+	case s < MinPriorShape:
+		return Beta{}, inputErr("successes", RuleShapeTooSmall, "%v imagined successes", s)
+	case n-s < MinPriorShape:
+		return Beta{}, inputErr("successes", RuleShapeTooSmall, "%v imagined failures", n-s)
+	}
+	return d, d.Validate()
 }
 
 // FromMeanSD is the Beta with mean m and standard deviation sd by the
@@ -87,43 +97,63 @@ func FromMeanSD(m, sd float64) (Beta, error) {
 		return Beta{}, inputErr("sd", RuleVarianceFeasible, "variance %v, m(1-m) = %v", v, m*(1-m))
 	}
 	k := m*(1-m)/v - 1
-	return NewBeta(m*k, (1-m)*k)
+	d := Beta{Alpha: m * k, Beta: (1 - m) * k}
+	if err := checkShapeLimits("sd", d); err != nil {
+		return Beta{}, err
+	}
+	return d, d.Validate()
 }
 
-// FromInterval is the Beta whose central interval [low, high] on [0, 1]
-// has the stated coverage, by a normal approximation: the mean is the
-// midpoint, m = (low+high)/2, and the standard deviation is
-// sd = (high−low)/2 / z, z = Φ⁻¹((1+coverage)/2) (so z ≈ 1.96 for 95%);
-// then FromMeanSD. The approximation is good when the Beta is nearly
-// symmetric; for skewed intervals fit the quantiles with FitQuantiles.
-func FromInterval(low, high, coverage float64) (Beta, error) {
+// FromIntervalMoments is the Beta whose central interval [low, high] on
+// [0, 1] has the stated coverage c, by the method of moments on a normal
+// approximation: the mean is the midpoint, m = (low + high)/2, and the
+// standard deviation is sd = (high − low)/2 / z with z = Φ⁻¹((1 + c)/2)
+// (so z ≈ 1.96 for 95%); then FromMeanSD. The approximation is good when
+// the Beta is nearly symmetric; the Beta's own central interval at c then
+// differs from [low, high] (ConstructionResult reports the coverage it
+// achieves). FromIntervalQuantiles matches the interval exactly.
+//
+// Rules: low and high finite and strictly inside (0, 1) with low < high;
+// coverage finite and strictly inside (0, 1); and the moments' rule,
+// sd² < m(1 − m), reported on the field "interval" as
+// RuleVarianceFeasible: the interval is too wide for its coverage.
+func FromIntervalMoments(low, high, coverage float64) (Beta, error) {
+	if err := checkInterval(low, high, coverage); err != nil {
+		return Beta{}, err
+	}
+	z := distuv.UnitNormal.Quantile((1 + coverage) / 2)
+	d, err := FromMeanSD((low+high)/2, (high-low)/2/z)
+	var ie *InputError
+	if errors.As(err, &ie) {
+		return Beta{}, inputErr("interval", ie.Rule,
+			"the moment match of [%v, %v] at %v%% coverage, mean %v and sd %.6g: %s", low, high, 100*coverage, (low+high)/2, (high-low)/2/z, ie.Detail)
+	}
+	return d, err
+}
+
+// checkInterval checks a central interval on [0, 1] and its coverage.
+func checkInterval(low, high, coverage float64) error {
 	for _, c := range []struct {
 		field string
 		v     float64
 	}{{"low", low}, {"high", high}, {"coverage", coverage}} {
 		if math.IsNaN(c.v) || math.IsInf(c.v, 0) {
-			return Beta{}, inputErr(c.field, RuleFinite, "got %v", c.v)
+			return inputErr(c.field, RuleFinite, "got %v", c.v)
 		}
 	}
 	if !(coverage > 0 && coverage < 1) {
-		return Beta{}, inputErr("coverage", RuleProbOpen, "got %v", coverage)
+		return inputErr("coverage", RuleProbOpen, "got %v", coverage)
 	}
 	if !(low > 0 && low < 1) {
-		return Beta{}, inputErr("low", RuleValueInBounds, "%v not inside (0, 1)", low)
+		return inputErr("low", RuleValueInBounds, "%v not inside (0, 1)", low)
 	}
 	if !(high > 0 && high < 1) {
-		return Beta{}, inputErr("high", RuleValueInBounds, "%v not inside (0, 1)", high)
+		return inputErr("high", RuleValueInBounds, "%v not inside (0, 1)", high)
 	}
 	if !(low < high) {
-		return Beta{}, inputErr("high", RuleValueIncreasing, "%v after %v", high, low)
+		return inputErr("high", RuleValueIncreasing, "%v after %v", high, low)
 	}
-	z := distuv.UnitNormal.Quantile((1 + coverage) / 2)
-	d, err := FromMeanSD((low+high)/2, (high-low)/2/z)
-	if ie, ok := err.(*InputError); ok && ie.Rule == RuleVarianceFeasible {
-		return Beta{}, inputErr("high", RuleVarianceFeasible,
-			"the interval [%v, %v] is too wide for a %v%% central interval of a Beta", low, high, 100*coverage)
-	}
-	return d, err
+	return nil
 }
 
 // FourValue turns the four-value interval format — the lowest and highest

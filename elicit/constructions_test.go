@@ -88,24 +88,24 @@ func TestFromMeanSD(t *testing.T) {
 	}
 }
 
-func TestFromInterval(t *testing.T) {
+func TestFromIntervalMoments(t *testing.T) {
 	// Normal approximation: mean = midpoint, sd = half-width / z with
 	// z = Φ⁻¹(0.975) = 1.959963984540054 for 95% (standard normal table,
 	// Abramowitz & Stegun 1964, Table 26.5, to the digits printed there:
 	// 1.959964).
-	d, err := FromInterval(0.2, 0.4, 0.95)
+	d, err := FromIntervalMoments(0.2, 0.4, 0.95)
 	if err != nil {
 		t.Fatal(err)
 	}
 	m, sd := 0.3, 0.1/1.959963984540054
 	k := m*(1-m)/(sd*sd) - 1
 	if math.Abs(d.Alpha-m*k) > 1e-9 || math.Abs(d.Beta-(1-m)*k) > 1e-9 {
-		t.Errorf("FromInterval(0.2, 0.4, 0.95) = %v, want Beta(%g, %g)", d, m*k, (1-m)*k)
+		t.Errorf("FromIntervalMoments(0.2, 0.4, 0.95) = %v, want Beta(%g, %g)", d, m*k, (1-m)*k)
 	}
 	// For a nearly normal Beta the central interval is recovered closely:
 	// Beta(300, 700)'s 90% central interval gives back α, β within 2%.
 	want := Beta{300, 700}
-	got, err := FromInterval(want.Quantile(0.05), want.Quantile(0.95), 0.9)
+	got, err := FromIntervalMoments(want.Quantile(0.05), want.Quantile(0.95), 0.9)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -126,10 +126,11 @@ func TestFromInterval(t *testing.T) {
 		{0.2, 1, 0.9, "high", RuleValueInBounds},
 		{0.4, 0.2, 0.9, "high", RuleValueIncreasing},
 		{0.3, 0.3, 0.9, "high", RuleValueIncreasing},
-		{0.01, 0.99, 0.5, "high", RuleVarianceFeasible},
+		{0.01, 0.99, 0.5, "interval", RuleVarianceFeasible},
+		{0.3, 0.3000000000001, 0.9, "interval", RuleShapeTooLarge},
 	}
 	for _, c := range bad {
-		_, err := FromInterval(c.lo, c.hi, c.c)
+		_, err := FromIntervalMoments(c.lo, c.hi, c.c)
 		checkRule(t, err, c.field, c.rule)
 	}
 }

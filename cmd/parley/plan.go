@@ -1,0 +1,403 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"math"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence], [--length, --level, --criterion, --interval], --format)", runPlan)
+}
+
+// curvePoints is how many numbers of trials the assurance curve has.
+const curvePoints = 40
+
+// planOutput is the JSON of `parley plan`; its keys trials, predictive,
+// assurance and sample_size (criterion, interval, level, length, n) are a
+// public contract.
+type planOutput struct {
+	Alpha     float64           `json:"alpha"`
+	Beta      float64           `json:"beta"`
+	PriorMean float64           `json:"prior_mean"`
+	PriorSD   float64           `json:"prior_sd"`
+	Worth     elicit.PriorWorth `json:"worth"`
+	Trials    int               `json:"trials"`
+	// DataShare is the weight the planned trials get in the posterior
+	// mean, n/(n + alpha + beta).
+	DataShare float64 `json:"data_share"`
+	// Predictive is P(X = x) for x = 0…trials, the beta-binomial prior
+	// predictive distribution of the number of successes.
+	Predictive            []float64     `json:"predictive"`
+	PredictiveMean        float64       `json:"predictive_mean"`
+	PredictiveSD          float64       `json:"predictive_sd"`
+	PredictivePercentiles planQuantiles `json:"predictive_percentiles"`
+	// Assurance, with Success, when --threshold is given.
+	Assurance      *float64             `json:"assurance,omitempty"`
+	Success        *planSuccess         `json:"success,omitempty"`
+	AssuranceCurve []planAssurancePoint `json:"assurance_curve,omitempty"`
+	// SampleSize when --length is given.
+	SampleSize *planSampleSize `json:"sample_size,omitempty"`
+	Warnings   []string        `json:"warnings"`
+}
+
+type planQuantiles struct {
+	Q05 int `json:"q05"`
+	Q50 int `json:"q50"`
+	Q95 int `json:"q95"`
+}
+
+type planSuccess struct {
+	Threshold  float64 `json:"threshold"`
+	Direction  string  `json:"direction"`
+	Confidence float64 `json:"confidence"`
+	// The study succeeds when its number of successes lies in
+	// [SuccessesFrom, SuccessesTo]; none does when from > to.
+	SuccessesFrom int `json:"successes_from"`
+	SuccessesTo   int `json:"successes_to"`
+}
+
+type planAssurancePoint struct {
+	Trials    int     `json:"trials"`
+	Assurance float64 `json:"assurance"`
+}
+
+type planSampleSize struct {
+	Criterion string  `json:"criterion"`
+	Interval  string  `json:"interval"`
+	Level     float64 `json:"level"`
+	Length    float64 `json:"length"`
+	N         int     `json:"n"`
+	Trim      float64 `json:"trim"`
+	// Value is the criterion at n: the expected width (alc), the average
+	// coverage (acc) or the worst width (woc).
+	Value        float64 `json:"value"`
+	WorstOutcome *int    `json:"worst_outcome,omitempty"`
+	Exhaustive   bool    `json:"exhaustive"`
+	ScannedTo    int     `json:"scanned_to"`
+	CheckedTo    int     `json:"checked_to"`
+	FailsAgainAt int     `json:"fails_again_at"`
+	// The criterion at the planned number of trials, when it is at most
+	// elicit.MaxSampleSize.
+	ValueAtTrials *float64 `json:"value_at_trials,omitempty"`
+	MetAtTrials   *bool    `json:"met_at_trials,omitempty"`
+}
+
+// planArgs are the raw flag values of `parley plan`, and which were set.
+type planArgs struct {
+	alpha, beta, trials                string
+	threshold, direction, confidence   string
+	length, level, criterion, interval string
+	trim, format                       string
+	exhaustive                         bool
+	set                                map[string]bool
+}
+
+func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("plan", stderr)
+	var a planArgs
+	fs.StringVar(&a.alpha, "alpha", "", "prior alpha (> 0)")
+	fs.StringVar(&a.beta, "beta", "", "prior beta (> 0)")
+	fs.StringVar(&a.trials, "trials", "", fmt.Sprintf("planned number of trials (1 to %d)", elicit.MaxPredictiveTrials))
+	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1")
+	fs.StringVar(&a.direction, "direction", "", "assurance: below (success when P(θ < T | data) ≥ G) or above (P(θ > T | data) ≥ G)")
+	fs.StringVar(&a.confidence, "confidence", "", "assurance: the posterior probability G the criterion asks for, strictly between 0 and 1")
+	fs.StringVar(&a.length, "length", "", "sample size: the interval length l, strictly between 0 and 1")
+	fs.StringVar(&a.level, "level", "0.95", "sample size: the coverage of the credible intervals")
+	fs.StringVar(&a.criterion, "criterion", "alc", "sample size: alc (average length), acc (average coverage) or woc (worst outcome)")
+	fs.StringVar(&a.interval, "interval", "equal", "sample size: equal (equal-tailed) or hpd (highest posterior density) intervals")
+	fs.StringVar(&a.trim, "woc-trim", "0", "sample size, woc: predictive probability of unlikely outcomes the worst outcome may ignore, in [0, 1)")
+	fs.BoolVar(&a.exhaustive, "exhaustive", false, "sample size: check every n from 1 however long it takes, instead of bisecting beyond the first thousand or so")
+	fs.StringVar(&a.format, "format", "text", "output: text or json")
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
+	}
+	a.set = map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { a.set[f.Name] = true })
+	out, err := planCommand(context.Background(), a)
+	if err != nil {
+		return fail(stderr, "plan", err)
+	}
+	if a.format == "json" {
+		err = writeJSON(stdout, out)
+	} else {
+		err = writePlanText(stdout, out)
+	}
+	if err != nil {
+		return fail(stderr, "plan", err)
+	}
+	return exitOK
+}
+
+// checkPlanGroups checks that the flags of assurance come together, and
+// that the sample-size flags come with --length.
+func checkPlanGroups(a planArgs) error {
+	for _, f := range []string{"alpha", "beta", "trials"} {
+		if !a.set[f] {
+			return badInput(f, "is required")
+		}
+	}
+	assurance := []string{"threshold", "direction", "confidence"}
+	for _, f := range assurance {
+		if a.set[f] {
+			for _, g := range assurance {
+				if !a.set[g] {
+					return badInput(g, "is required with --%s", f)
+				}
+			}
+			break
+		}
+	}
+	if !a.set["length"] {
+		for _, f := range []string{"level", "criterion", "interval", "woc-trim", "exhaustive"} {
+			if a.set[f] {
+				return badInput(f, "applies to the sample size: give --length too")
+			}
+		}
+	}
+	return nil
+}
+
+func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
+	if err := checkFormat(a.format); err != nil {
+		return planOutput{}, err
+	}
+	if err := checkPlanGroups(a); err != nil {
+		return planOutput{}, err
+	}
+	alpha, err := number("alpha", a.alpha)
+	if err != nil {
+		return planOutput{}, err
+	}
+	beta, err := number("beta", a.beta)
+	if err != nil {
+		return planOutput{}, err
+	}
+	n, err := count("trials", a.trials, elicit.MaxPredictiveTrials)
+	if err != nil {
+		return planOutput{}, err
+	}
+	if n < 1 {
+		return planOutput{}, &elicit.InputError{Field: "trials", Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("1 to %d, got %d", elicit.MaxPredictiveTrials, n)}
+	}
+	prior := elicit.Beta{Alpha: alpha, Beta: beta}
+	if err := prior.Validate(); err != nil {
+		return planOutput{}, err
+	}
+	var goal *elicit.SuccessCriterion
+	if a.set["threshold"] {
+		g := elicit.SuccessCriterion{Direction: elicit.Direction(a.direction)}
+		if g.Threshold, err = number("threshold", a.threshold); err != nil {
+			return planOutput{}, err
+		}
+		if g.Confidence, err = number("confidence", a.confidence); err != nil {
+			return planOutput{}, err
+		}
+		if err := g.Validate(); err != nil {
+			return planOutput{}, err
+		}
+		goal = &g
+	}
+	var size *elicit.SampleSizeGoal
+	if a.set["length"] {
+		g := elicit.SampleSizeGoal{Criterion: elicit.Criterion(a.criterion), Interval: elicit.IntervalKind(a.interval)}
+		if g.Length, err = number("length", a.length); err != nil {
+			return planOutput{}, err
+		}
+		if g.Level, err = number("level", a.level); err != nil {
+			return planOutput{}, err
+		}
+		if g.Trim, err = number("woc-trim", a.trim); err != nil {
+			return planOutput{}, err
+		}
+		if err := g.Validate(); err != nil {
+			return planOutput{}, wocTrimFlag(err)
+		}
+		size = &g
+	}
+
+	pmf, err := elicit.PriorPredictive(prior, n)
+	if err != nil {
+		return planOutput{}, err
+	}
+	worth := elicit.Worth(prior)
+	s := worth.Trials
+	fn := float64(n)
+	out := planOutput{
+		Alpha: alpha, Beta: beta, PriorMean: prior.Mean(), PriorSD: prior.SD(), Worth: worth,
+		Trials: n, DataShare: worth.DataShare(n), Predictive: pmf,
+		// Beta-binomial mean and variance (Johnson, Kemp & Kotz 2005,
+		// "Univariate Discrete Distributions", 3rd ed., §6.7.2):
+		// nα/(α+β) and nαβ(α+β+n)/((α+β)²(α+β+1)).
+		PredictiveMean: fn * prior.Mean(),
+		PredictiveSD:   math.Sqrt(fn * alpha * beta * (s + fn) / (s * s * (s + 1))),
+		PredictivePercentiles: planQuantiles{
+			elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95),
+		},
+		Warnings: []string{},
+	}
+	nums := append([]float64{out.PriorMean, out.PriorSD, out.DataShare, out.PredictiveMean, out.PredictiveSD}, pmf...)
+	if goal != nil {
+		r, err := elicit.Assurance(prior, n, *goal)
+		if err != nil {
+			return planOutput{}, err
+		}
+		out.Assurance = &r.Assurance
+		out.Success = &planSuccess{Threshold: goal.Threshold, Direction: string(goal.Direction), Confidence: goal.Confidence,
+			SuccessesFrom: r.SuccessFrom, SuccessesTo: r.SuccessTo}
+		curve, err := elicit.AssuranceCurve(prior, *goal, elicit.PlanGrid(n, curvePoints))
+		if err != nil {
+			return planOutput{}, err
+		}
+		for _, c := range curve {
+			out.AssuranceCurve = append(out.AssuranceCurve, planAssurancePoint{c.Trials, c.Assurance})
+			nums = append(nums, c.Assurance)
+		}
+		nums = append(nums, r.Assurance)
+	}
+	if size != nil {
+		search := elicit.SampleSize
+		if a.exhaustive {
+			search = elicit.SampleSizeExhaustive
+		}
+		r, err := search(ctx, prior, *size)
+		if err != nil {
+			return planOutput{}, err
+		}
+		ss := &planSampleSize{
+			Criterion: string(size.Criterion), Interval: string(size.Interval), Level: size.Level, Length: size.Length,
+			N: r.N, Trim: size.Trim, Value: r.At.Value, Exhaustive: r.Exhaustive, ScannedTo: r.ScannedTo,
+			CheckedTo: r.CheckedTo, FailsAgainAt: r.FailsAgainAt,
+		}
+		nums = append(nums, r.At.Value)
+		if size.Criterion == elicit.CriterionWOC {
+			ss.WorstOutcome = &r.At.Worst
+		}
+		if n <= elicit.MaxSampleSize {
+			at, err := elicit.CriterionValue(prior, *size, n)
+			if err != nil {
+				return planOutput{}, err
+			}
+			ss.ValueAtTrials, ss.MetAtTrials = &at.Value, &at.Met
+			nums = append(nums, at.Value)
+		} else {
+			out.Warnings = append(out.Warnings, fmt.Sprintf("the sample-size criterion is not evaluated at %d trials: more than %d", n, elicit.MaxSampleSize))
+		}
+		if r.FailsAgainAt != 0 {
+			out.Warnings = append(out.Warnings, fmt.Sprintf("the %s criterion is met at n = %d but fails again at n = %d: it is not monotone here, so look at it over a range of n before settling on one", size.Criterion, r.N, r.FailsAgainAt))
+		}
+		if !r.Exhaustive {
+			out.Warnings = append(out.Warnings, fmt.Sprintf("every n up to %d fails the criterion; above that n = %d was found by bisection, which assumes the criterion stays met once met (use --exhaustive to check every n)", r.ScannedTo, r.N))
+		}
+		out.SampleSize = ss
+	}
+	if !finite(nums...) {
+		return planOutput{}, errors.New("the plan produced a non-finite number; nothing printed")
+	}
+	return out, nil
+}
+
+// wocTrimFlag names elicit's field "trim" by its flag, --woc-trim.
+func wocTrimFlag(err error) error {
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && ie.Field == "trim" {
+		return &elicit.InputError{Field: "woc-trim", Rule: ie.Rule, Detail: ie.Detail}
+	}
+	return err
+}
+
+// criterionWords names a criterion and its value for people.
+var criterionWords = map[string][2]string{
+	"alc": {"average length", "expected width"},
+	"acc": {"average coverage", "average coverage"},
+	"woc": {"worst outcome", "worst width"},
+}
+
+func writePlanText(w io.Writer, o planOutput) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g): mean %.4g, sd %.4g; %s\n", o.Alpha, o.Beta, o.PriorMean, o.PriorSD, o.Worth)
+	fmt.Fprintf(&b, "a study of %d trials gets %.0f%% of the weight in the posterior mean\n", o.Trials, 100*o.DataShare)
+	q := o.PredictivePercentiles
+	fmt.Fprintf(&b, "prior predictive number of successes in %d trials: mean %.4g, sd %.4g; 5%% %d, 50%% %d, 95%% %d\n",
+		o.Trials, o.PredictiveMean, o.PredictiveSD, q.Q05, q.Q50, q.Q95)
+	if len(o.Predictive) <= 31 {
+		fmt.Fprintf(&b, "  %9s  %s\n", "successes", "probability")
+		for x, p := range o.Predictive {
+			fmt.Fprintf(&b, "  %9d  %.4g\n", x, p)
+		}
+	} else {
+		fmt.Fprintf(&b, "  (--format json lists all %d probabilities)\n", len(o.Predictive))
+	}
+	if s := o.Success; s != nil {
+		sign := "<"
+		if s.Direction == string(elicit.DirectionAbove) {
+			sign = ">"
+		}
+		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %d trials: %.4g\n", sign, s.Threshold, s.Confidence, o.Trials, *o.Assurance)
+		switch {
+		case s.SuccessesFrom > s.SuccessesTo:
+			fmt.Fprintf(&b, "  no outcome of %d trials meets the criterion\n", o.Trials)
+		case s.SuccessesFrom == 0 && s.SuccessesTo == o.Trials:
+			fmt.Fprintf(&b, "  every outcome of %d trials meets the criterion\n", o.Trials)
+		case s.SuccessesFrom == 0:
+			fmt.Fprintf(&b, "  the study succeeds if it sees at most %d successes\n", s.SuccessesTo)
+		default:
+			fmt.Fprintf(&b, "  the study succeeds if it sees at least %d successes\n", s.SuccessesFrom)
+		}
+		fmt.Fprintf(&b, "  assurance over the number of trials:")
+		step := max(1, len(o.AssuranceCurve)/8)
+		for i := step - 1; i < len(o.AssuranceCurve); i += step {
+			c := o.AssuranceCurve[i]
+			fmt.Fprintf(&b, " %d: %.3g;", c.Trials, c.Assurance)
+		}
+		b.WriteString("\n")
+	}
+	if s := o.SampleSize; s != nil {
+		words := criterionWords[s.Criterion]
+		kind := "equal-tailed"
+		if s.Interval == string(elicit.IntervalHPD) {
+			kind = "highest-density"
+		}
+		var goal string
+		switch s.Criterion {
+		case string(elicit.CriterionALC):
+			goal = fmt.Sprintf("its %s %g%% intervals are on average at most %g wide", kind, 100*s.Level, s.Length)
+		case string(elicit.CriterionACC):
+			goal = fmt.Sprintf("its %s intervals %g wide hold on average at least %g%%", kind, s.Length, 100*s.Level)
+		default:
+			goal = fmt.Sprintf("its %s %g%% intervals are at most %g wide whatever the outcome", kind, 100*s.Level, s.Length)
+			if s.Trim > 0 {
+				goal += fmt.Sprintf(", leaving aside unlikely outcomes of total probability %g", s.Trim)
+			}
+		}
+		fmt.Fprintf(&b, "sample size by %s (%s), the smallest n for which %s: n = %d\n", words[0], s.Criterion, goal, s.N)
+		fmt.Fprintf(&b, "  %s at n = %d: %.4g", words[1], s.N, s.Value)
+		if s.WorstOutcome != nil {
+			fmt.Fprintf(&b, " (the posterior after %d of %d)", *s.WorstOutcome, s.N)
+		}
+		if s.Exhaustive && s.N > 1 {
+			b.WriteString("; every smaller n was checked and fails\n")
+		} else {
+			b.WriteString("\n")
+		}
+		if s.ValueAtTrials != nil {
+			met := "not met"
+			if *s.MetAtTrials {
+				met = "met"
+			}
+			fmt.Fprintf(&b, "  at the planned %d trials: %s %.4g (%s)\n", o.Trials, words[1], *s.ValueAtTrials, met)
+		}
+	}
+	for _, m := range o.Warnings {
+		fmt.Fprintf(&b, "warning: %s\n", m)
+	}
+	fmt.Fprintln(&b, priorCaution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}

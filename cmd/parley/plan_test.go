@@ -1,0 +1,274 @@
+package main
+
+import (
+	"bufio"
+	"encoding/json"
+	"math"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// planReference reads one value, and its extra column, from
+// testdata/scipy/plan_reference.csv (made by
+// testdata/scipy/plan_reference.py with Debian's python3-scipy 1.10.1 by
+// enumerating every outcome of the study).
+func planReference(t *testing.T, kind, alpha, beta, n, spec string) (float64, string) {
+	t.Helper()
+	f, err := os.Open("../../testdata/scipy/plan_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	prefix := strings.Join([]string{kind, alpha, beta, n, spec}, ",") + ","
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		if rest, ok := strings.CutPrefix(sc.Text(), prefix); ok {
+			cols := strings.Split(rest, ",")
+			v, err := strconv.ParseFloat(cols[0], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return v, cols[1]
+		}
+	}
+	t.Fatalf("no reference row %s", prefix)
+	return 0, ""
+}
+
+func runPlanJSON(t *testing.T, args ...string) (planOutput, map[string]json.RawMessage) {
+	t.Helper()
+	code, out, errOut := runCLI(t, "", append([]string{"plan", "--format", "json"}, args...)...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got planOutput
+	var keys map[string]json.RawMessage
+	decodeJSON(t, out, &got)
+	decodeJSON(t, out, &keys)
+	return got, keys
+}
+
+// TestPlanPredictive: the prior predictive of 50 trials under Beta(2, 38),
+// all 51 probabilities, against scipy.stats.betabinom.
+func TestPlanPredictive(t *testing.T) {
+	got, keys := runPlanJSON(t, "--alpha", "2", "--beta", "38", "--trials", "50")
+	for _, k := range []string{"trials", "predictive"} {
+		if _, ok := keys[k]; !ok {
+			t.Errorf("key %q missing", k)
+		}
+	}
+	for _, k := range []string{"assurance", "sample_size"} {
+		if _, ok := keys[k]; ok {
+			t.Errorf("key %q present though not asked for", k)
+		}
+	}
+	if got.Trials != 50 || len(got.Predictive) != 51 {
+		t.Fatalf("trials %d, %d probabilities", got.Trials, len(got.Predictive))
+	}
+	sum := 0.0
+	for x, p := range got.Predictive {
+		want, _ := planReference(t, "predictive", "2.0", "38.0", "50", strconv.Itoa(x))
+		if !nearRel(p, want, 1e-9) {
+			t.Errorf("P(X = %d) = %.15g, scipy %.15g", x, p, want)
+		}
+		sum += p
+	}
+	// Beta-binomial moments (Johnson, Kemp & Kotz 2005, §6.7.2): mean
+	// 50·2/40 = 2.5; variance 50·2·38·90/(40²·41) = 5.2134…
+	if math.Abs(sum-1) > 1e-12 || math.Abs(got.PredictiveMean-2.5) > 1e-12 || math.Abs(got.PredictiveSD-math.Sqrt(50.0*2*38*90/(1600*41))) > 1e-12 {
+		t.Errorf("sum %v, mean %v, sd %v", sum, got.PredictiveMean, got.PredictiveSD)
+	}
+	// Worth 40 trials; 50 planned trials get 50/90 of the posterior mean.
+	if got.Worth.Trials != 40 || math.Abs(got.DataShare-50.0/90) > 1e-15 {
+		t.Errorf("worth %+v, data share %v", got.Worth, got.DataShare)
+	}
+}
+
+// TestPlanAssurance: assurance of P(θ < 0.08 | data) ≥ 0.95 after 100
+// trials under Beta(2, 38), against SciPy's sum over every outcome; the
+// curve's points against SciPy's too.
+func TestPlanAssurance(t *testing.T) {
+	got, keys := runPlanJSON(t, "--alpha", "2", "--beta", "38", "--trials", "100",
+		"--threshold", "0.08", "--direction", "below", "--confidence", "0.95")
+	if _, ok := keys["assurance"]; !ok {
+		t.Fatal("assurance missing")
+	}
+	want, span := planReference(t, "assurance", "2.0", "38.0", "100", "0.08:below:0.95")
+	if !nearRel(*got.Assurance, want, 1e-12) {
+		t.Errorf("assurance %.15g, scipy %.15g", *got.Assurance, want)
+	}
+	if s := strconv.Itoa(got.Success.SuccessesFrom) + ":" + strconv.Itoa(got.Success.SuccessesTo); s != span {
+		t.Errorf("successes %s, scipy %s", s, span)
+	}
+	if len(got.AssuranceCurve) != curvePoints || got.AssuranceCurve[len(got.AssuranceCurve)-1].Trials != 100 {
+		t.Fatalf("curve %+v", got.AssuranceCurve)
+	}
+	for _, c := range got.AssuranceCurve {
+		want, _ := planReference(t, "assurance", "2.0", "38.0", strconv.Itoa(c.Trials), "0.08:below:0.95")
+		if !nearRel(c.Assurance, want, 1e-12) {
+			t.Errorf("curve at %d: %.15g, scipy %.15g", c.Trials, c.Assurance, want)
+		}
+	}
+	// Above: 50 trials under the uniform prior, P(θ > 0.5) ≥ 0.975.
+	got, _ = runPlanJSON(t, "--alpha", "1", "--beta", "1", "--trials", "50",
+		"--threshold", "0.5", "--direction", "above", "--confidence", "0.975")
+	want, span = planReference(t, "assurance", "1.0", "1.0", "50", "0.5:above:0.975")
+	if !nearRel(*got.Assurance, want, 1e-12) || strconv.Itoa(got.Success.SuccessesFrom)+":"+strconv.Itoa(got.Success.SuccessesTo) != span {
+		t.Errorf("above: assurance %.15g from %d, scipy %.15g %s", *got.Assurance, got.Success.SuccessesFrom, want, span)
+	}
+}
+
+// TestPlanSampleSize: the smallest n against SciPy trying every n from 1
+// (no published table is used; see elicit's TestCriterionAgainstSciPy).
+func TestPlanSampleSize(t *testing.T) {
+	cases := []struct {
+		args            []string
+		alpha, beta     string
+		spec            string
+		worst, failsAgn bool
+	}{
+		{[]string{"--alpha", "2", "--beta", "38", "--length", "0.04"}, "2.0", "38.0", "alc:equal:0.95:0.04:0.0", false, false},
+		{[]string{"--alpha", "2", "--beta", "38", "--length", "0.06", "--criterion", "acc", "--interval", "hpd", "--level", "0.9"}, "2.0", "38.0", "acc:hpd:0.9:0.06:0.0", false, false},
+		{[]string{"--alpha", "2", "--beta", "38", "--length", "0.2", "--criterion", "woc"}, "2.0", "38.0", "woc:equal:0.95:0.2:0.0", true, true},
+		{[]string{"--alpha", "2", "--beta", "38", "--length", "0.1", "--criterion", "woc", "--woc-trim", "0.05"}, "2.0", "38.0", "woc:equal:0.95:0.1:0.05", true, true},
+	}
+	for _, c := range cases {
+		got, keys := runPlanJSON(t, append([]string{"--trials", "30"}, c.args...)...)
+		var ss map[string]json.RawMessage
+		if err := json.Unmarshal(keys["sample_size"], &ss); err != nil {
+			t.Fatalf("%v: sample_size: %v", c.args, err)
+		}
+		for _, k := range []string{"criterion", "interval", "level", "length", "n"} {
+			if _, ok := ss[k]; !ok {
+				t.Errorf("%v: sample_size.%s missing", c.args, k)
+			}
+		}
+		s := got.SampleSize
+		want, extra := planReference(t, "samplesize", c.alpha, c.beta, strconv.Itoa(s.N), c.spec)
+		if !nearRel(s.Value, want, 1e-9) {
+			t.Errorf("%v: value %.12g at n %d, scipy %.12g", c.args, s.Value, s.N, want)
+		}
+		if spec := strings.Join([]string{s.Criterion, s.Interval, strconv.FormatFloat(s.Level, 'g', -1, 64), strconv.FormatFloat(s.Length, 'g', -1, 64)}, ":"); !strings.HasPrefix(c.spec, spec) {
+			t.Errorf("echoed goal %s, asked %s", spec, c.spec)
+		}
+		if (s.WorstOutcome != nil) != c.worst {
+			t.Errorf("%v: worst outcome %v", c.args, s.WorstOutcome)
+		}
+		if again, _ := strconv.Atoi(extra); (s.FailsAgainAt != 0) != c.failsAgn || s.FailsAgainAt != 0 && s.FailsAgainAt != again {
+			t.Errorf("%v: fails again at %d, scipy %s", c.args, s.FailsAgainAt, extra)
+		}
+		if c.failsAgn && (len(got.Warnings) == 0 || !strings.Contains(strings.Join(got.Warnings, " "), "not monotone")) {
+			t.Errorf("%v: no warning that the criterion is not monotone: %q", c.args, got.Warnings)
+		}
+		// At the planned 30 trials, the criterion as elicit gives it.
+		goal := elicit.SampleSizeGoal{Criterion: elicit.Criterion(s.Criterion), Interval: elicit.IntervalKind(s.Interval), Level: s.Level, Length: s.Length, Trim: s.Trim}
+		at, err := elicit.CriterionValue(elicit.Beta{Alpha: 2, Beta: 38}, goal, 30)
+		if err != nil || *s.ValueAtTrials != at.Value || *s.MetAtTrials != at.Met {
+			t.Errorf("%v: at 30 trials %v %v, elicit %+v %v", c.args, *s.ValueAtTrials, *s.MetAtTrials, at, err)
+		}
+	}
+}
+
+func TestPlanText(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "2", "--beta", "38", "--trials", "20",
+		"--threshold", "0.1", "--direction", "below", "--confidence", "0.9", "--length", "0.2", "--criterion", "woc")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{
+		"prior Beta(2, 38): mean 0.05",
+		"worth about 40 imagined trials (2 successes and 38 failures)",
+		"a study of 20 trials gets 33% of the weight in the posterior mean",
+		"successes  probability",
+		"assurance that P(θ < 0.1 | data) ≥ 0.9 after 20 trials",
+		"the study succeeds if it sees at most",
+		"sample size by worst outcome (woc), the smallest n for which its equal-tailed 95% intervals are at most 0.2 wide whatever the outcome: n = 1",
+		"warning: the woc criterion is met at n = 1 but fails again at n = 5",
+		"Caution:",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+// TestPlanBadInput: every flag's rules. One rule is tested in elicit
+// instead (TestSampleSizeUnreachable, with a small limit): a length no n
+// up to elicit.MaxSampleSize reaches, whose search takes seconds.
+func TestPlanBadInput(t *testing.T) {
+	base := []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "50"}
+	with := func(more ...string) []string { return append(append([]string{}, base...), more...) }
+	set := func(flag, value string) []string {
+		out := append([]string{}, base...)
+		for i := range out {
+			if out[i] == flag {
+				out[i+1] = value
+			}
+		}
+		return out
+	}
+	assure := []string{"--threshold", "0.08", "--direction", "below", "--confidence", "0.95"}
+	tests := []struct {
+		name string
+		args []string
+		want []string
+	}{
+		{"no alpha", []string{"plan", "--beta", "38", "--trials", "50"}, []string{"--alpha", "is required"}},
+		{"no beta", []string{"plan", "--alpha", "2", "--trials", "50"}, []string{"--beta", "is required"}},
+		{"no trials", []string{"plan", "--alpha", "2", "--beta", "38"}, []string{"--trials", "is required"}},
+		{"alpha zero", set("--alpha", "0"), []string{"alpha", string(elicit.RulePositive)}},
+		{"alpha syntax", set("--alpha", "2,5"), []string{"alpha", "plain decimal"}},
+		{"beta negative", set("--beta", "-38"), []string{"beta", string(elicit.RulePositive)}},
+		{"beta overflow", set("--beta", "1e309"), []string{"beta", string(elicit.RuleFinite)}},
+		{"trials zero", set("--trials", "0"), []string{"trials", string(elicit.RuleCountRange)}},
+		{"trials fraction", set("--trials", "50.5"), []string{"trials", string(elicit.RuleInteger)}},
+		{"trials too many", set("--trials", "1000001"), []string{"trials", string(elicit.RuleCountRange)}},
+		{"threshold alone", with("--threshold", "0.08"), []string{"--direction", "is required with --threshold"}},
+		{"confidence alone", with("--confidence", "0.9"), []string{"--threshold", "is required with --confidence"}},
+		{"direction alone", with("--direction", "below"), []string{"--threshold", "is required with --direction"}},
+		{"threshold one", with("--threshold", "1", "--direction", "below", "--confidence", "0.95"), []string{"threshold", string(elicit.RuleProbOpen)}},
+		{"threshold syntax", with("--threshold", "8%", "--direction", "below", "--confidence", "0.95"), []string{"threshold", "plain decimal"}},
+		{"direction unknown", with("--threshold", "0.08", "--direction", "less", "--confidence", "0.95"), []string{"direction", string(elicit.RuleUnknown)}},
+		{"confidence percent", with("--threshold", "0.08", "--direction", "below", "--confidence", "95"), []string{"confidence", string(elicit.RuleProbOpen)}},
+		{"confidence NaN", with("--threshold", "0.08", "--direction", "below", "--confidence", "NaN"), []string{"confidence", "plain decimal"}},
+		{"length zero", with("--length", "0"), []string{"length", string(elicit.RuleProbOpen)}},
+		{"length syntax", with("--length", "0.1.2"), []string{"length", "plain decimal"}},
+		{"level one", with("--length", "0.1", "--level", "1"), []string{"level", string(elicit.RuleProbOpen)}},
+		{"level without length", with("--level", "0.9"), []string{"--level", "give --length too"}},
+		{"criterion without length", with("--criterion", "acc"), []string{"--criterion", "give --length too"}},
+		{"interval without length", with("--interval", "hpd"), []string{"--interval", "give --length too"}},
+		{"trim without length", with("--woc-trim", "0.1"), []string{"--woc-trim", "give --length too"}},
+		{"exhaustive without length", with("--exhaustive"), []string{"--exhaustive", "give --length too"}},
+		{"criterion unknown", with("--length", "0.1", "--criterion", "mse"), []string{"criterion", string(elicit.RuleUnknown)}},
+		{"interval unknown", with("--length", "0.1", "--interval", "central"), []string{"interval", string(elicit.RuleUnknown)}},
+		{"trim not woc", with("--length", "0.1", "--woc-trim", "0.05"), []string{"woc-trim", string(elicit.RuleTrimWOCOnly)}},
+		{"trim one", with("--length", "0.1", "--criterion", "woc", "--woc-trim", "1"), []string{"woc-trim", string(elicit.RuleTrimRange)}},
+		{"trim syntax", with("--length", "0.1", "--criterion", "woc", "--woc-trim", "-"), []string{"woc-trim", "plain decimal"}},
+		{"format", append(with(assure...), "--format", "yaml"), []string{"format", "text or json"}},
+		{"unknown flag", with("--lenght", "0.1"), []string{"lenght"}},
+		{"stray argument", with("200"), []string{"200", "unexpected argument"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, "", tc.args...)
+			if code != exitBadInput {
+				t.Errorf("exit %d, want 2; stderr %q", code, errOut)
+			}
+			if out != "" {
+				t.Errorf("stdout %q, want nothing", out)
+			}
+			if strings.Count(errOut, "\n") != 1 || !strings.HasSuffix(errOut, "\n") {
+				t.Errorf("stderr is not one line: %q", errOut)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(errOut, w) {
+					t.Errorf("stderr %q does not contain %q", errOut, w)
+				}
+			}
+		})
+	}
+}

@@ -1,0 +1,271 @@
+package main
+
+import (
+	"errors"
+	"flag"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func init() {
+	command("prior", "make a Beta prior quickly (--uniform | --successes, --trials | --mean, --sd | --interval, --coverage, [--method]; [--lower, --upper], --format)", runPrior)
+}
+
+// priorOutput is the JSON of `parley prior`; its keys are a public
+// contract (alpha, beta, method, mean, sd, q05, q50, q95 and, for an
+// interval, coverage_achieved).
+type priorOutput struct {
+	Alpha  float64 `json:"alpha"`
+	Beta   float64 `json:"beta"`
+	Lower  float64 `json:"lower"`
+	Upper  float64 `json:"upper"`
+	Method string  `json:"method"`
+	Mean   float64 `json:"mean"`
+	SD     float64 `json:"sd"`
+	Q05    float64 `json:"q05"`
+	Q50    float64 `json:"q50"`
+	Q95    float64 `json:"q95"`
+	// For an interval: the probability the prior gives to it and to each
+	// side of it.
+	CoverageAchieved *float64 `json:"coverage_achieved,omitempty"`
+	BelowLow         *float64 `json:"below_low,omitempty"`
+	AboveHigh        *float64 `json:"above_high,omitempty"`
+	// Alternative is the other interval method's prior, for comparison.
+	Alternative *priorAlternative        `json:"alternative,omitempty"`
+	Worth       elicit.PriorWorth        `json:"worth"`
+	Description string                   `json:"description"`
+	Input       elicit.ConstructionInput `json:"input"`
+	Warnings    []string                 `json:"warnings"`
+	WarningCode []string                 `json:"warning_codes"`
+}
+
+type priorAlternative struct {
+	Method           string  `json:"method"`
+	Alpha            float64 `json:"alpha"`
+	Beta             float64 `json:"beta"`
+	CoverageAchieved float64 `json:"coverage_achieved"`
+}
+
+// priorArgs are the raw flag values of `parley prior`, and which were set.
+type priorArgs struct {
+	uniform                            bool
+	successes, trials, mean, sd        string
+	interval, coverage, method, format string
+	lower, upper                       string
+	set                                map[string]bool
+}
+
+func runPrior(args []string, _ io.Reader, stdout, stderr io.Writer) int {
+	fs := newFlags("prior", stderr)
+	var a priorArgs
+	fs.BoolVar(&a.uniform, "uniform", false, "the uniform prior, Beta(1, 1): every value equally likely")
+	fs.StringVar(&a.successes, "successes", "", "equivalent prior sample: imagined successes s (> 0), with --trials")
+	fs.StringVar(&a.trials, "trials", "", "equivalent prior sample: imagined trials n (> s); the prior is Beta(s, n - s)")
+	fs.StringVar(&a.mean, "mean", "", "method of moments: the mean, with --sd")
+	fs.StringVar(&a.sd, "sd", "", "method of moments: the standard deviation (sd² < (mean - lower)(upper - mean))")
+	fs.StringVar(&a.interval, "interval", "", "central interval: low,high, with --coverage")
+	fs.StringVar(&a.coverage, "coverage", "", "central interval: the probability it holds, strictly between 0 and 1")
+	fs.StringVar(&a.method, "method", "quantiles", "central interval: quantiles (exact match) or moments (normal approximation)")
+	fs.StringVar(&a.lower, "lower", "0", "lower bound of the quantity")
+	fs.StringVar(&a.upper, "upper", "1", "upper bound of the quantity")
+	fs.StringVar(&a.format, "format", "text", "output: text or json")
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
+	}
+	a.set = map[string]bool{}
+	fs.Visit(func(f *flag.Flag) { a.set[f.Name] = true })
+	out, err := priorCommand(a)
+	if err != nil {
+		return fail(stderr, "prior", err)
+	}
+	if a.format == "json" {
+		err = writeJSON(stdout, out)
+	} else {
+		err = writePriorText(stdout, out)
+	}
+	if err != nil {
+		return fail(stderr, "prior", err)
+	}
+	return exitOK
+}
+
+// priorGroups are the constructions, each named by its flags.
+var priorGroups = []struct {
+	method elicit.ConstructionMethod
+	flags  []string
+}{
+	{elicit.MethodUniform, []string{"uniform"}},
+	{elicit.MethodEquivalentSample, []string{"successes", "trials"}},
+	{elicit.MethodMeanSD, []string{"mean", "sd"}},
+	{elicit.MethodIntervalQuantiles, []string{"interval", "coverage"}},
+}
+
+// chooseConstruction checks that exactly one construction was given, with
+// all its flags, and returns it.
+func chooseConstruction(a priorArgs) (elicit.ConstructionMethod, error) {
+	chosen, given := -1, ""
+	for i, g := range priorGroups {
+		for _, f := range g.flags {
+			if a.set[f] && (f != "uniform" || a.uniform) {
+				if chosen >= 0 && chosen != i {
+					return "", badInput(f, "cannot be combined with --%s: give exactly one construction", given)
+				}
+				if chosen < 0 {
+					chosen, given = i, f
+				}
+			}
+		}
+	}
+	if chosen < 0 {
+		return "", badInput("uniform", "give exactly one construction: --uniform, --successes with --trials, --mean with --sd, or --interval with --coverage")
+	}
+	for _, f := range priorGroups[chosen].flags {
+		if !a.set[f] {
+			return "", badInput(f, "is required with --%s", given)
+		}
+	}
+	m := priorGroups[chosen].method
+	if a.set["method"] && m != elicit.MethodIntervalQuantiles {
+		return "", badInput("method", "applies only to --interval")
+	}
+	if m == elicit.MethodIntervalQuantiles {
+		switch a.method {
+		case "quantiles":
+		case "moments":
+			m = elicit.MethodIntervalMoments
+		default:
+			return "", badInput("method", "must be quantiles or moments, got %q", a.method)
+		}
+	}
+	if m == elicit.MethodEquivalentSample && (a.set["lower"] || a.set["upper"]) {
+		f := "lower"
+		if !a.set["lower"] {
+			f = "upper"
+		}
+		return "", badInput(f, "an equivalent prior sample describes a proportion on [0, 1]: --lower and --upper apply to --uniform, --mean and --interval")
+	}
+	return m, nil
+}
+
+func priorCommand(a priorArgs) (priorOutput, error) {
+	if err := checkFormat(a.format); err != nil {
+		return priorOutput{}, err
+	}
+	method, err := chooseConstruction(a)
+	if err != nil {
+		return priorOutput{}, err
+	}
+	in := elicit.ConstructionInput{Method: method}
+	if in.Lower, err = number("lower", a.lower); err != nil {
+		return priorOutput{}, err
+	}
+	if in.Upper, err = number("upper", a.upper); err != nil {
+		return priorOutput{}, err
+	}
+	switch method {
+	case elicit.MethodEquivalentSample:
+		if in.Successes, err = number("successes", a.successes); err != nil {
+			return priorOutput{}, err
+		}
+		if in.Trials, err = number("trials", a.trials); err != nil {
+			return priorOutput{}, err
+		}
+	case elicit.MethodMeanSD:
+		if in.Mean, err = number("mean", a.mean); err != nil {
+			return priorOutput{}, err
+		}
+		if in.SD, err = number("sd", a.sd); err != nil {
+			return priorOutput{}, err
+		}
+	case elicit.MethodIntervalQuantiles, elicit.MethodIntervalMoments:
+		ends, err := numbers("interval", a.interval)
+		if err != nil {
+			return priorOutput{}, err
+		}
+		if len(ends) != 2 {
+			return priorOutput{}, badInput("interval", "needs two numbers, low,high; got %d", len(ends))
+		}
+		in.Low, in.High = ends[0], ends[1]
+		if in.Coverage, err = number("coverage", a.coverage); err != nil {
+			return priorOutput{}, err
+		}
+	}
+	c, err := elicit.Construct(in)
+	if err != nil {
+		return priorOutput{}, intervalFlag(err)
+	}
+	out := priorOutput{
+		Alpha: c.Dist.Alpha, Beta: c.Dist.Beta.Beta, Lower: c.Dist.Lower, Upper: c.Dist.Upper,
+		Method: string(method), Mean: c.Dist.Mean(), SD: c.Dist.SD(),
+		Q05: c.Dist.Quantile(0.05), Q50: c.Dist.Quantile(0.5), Q95: c.Dist.Quantile(0.95),
+		Worth: elicit.Worth(c.Dist.Beta), Description: c.Describe(), Input: c.Input,
+		Warnings: []string{}, WarningCode: []string{},
+	}
+	nums := []float64{out.Alpha, out.Beta, out.Mean, out.SD, out.Q05, out.Q50, out.Q95}
+	if method.IsInterval() {
+		out.CoverageAchieved, out.BelowLow, out.AboveHigh = &c.CoverageAchieved, &c.BelowLow, &c.AboveHigh
+		nums = append(nums, c.CoverageAchieved, c.BelowLow, c.AboveHigh)
+		other := in
+		other.Method = elicit.MethodIntervalMoments
+		if method == elicit.MethodIntervalMoments {
+			other.Method = elicit.MethodIntervalQuantiles
+		}
+		if oc, err := elicit.Construct(other); err == nil {
+			out.Alternative = &priorAlternative{Method: string(other.Method), Alpha: oc.Dist.Alpha, Beta: oc.Dist.Beta.Beta, CoverageAchieved: oc.CoverageAchieved}
+			nums = append(nums, oc.Dist.Alpha, oc.Dist.Beta.Beta, oc.CoverageAchieved)
+		} else {
+			out.Warnings = append(out.Warnings, fmt.Sprintf("the %s method gives no prior for this interval: %v", other.Method, strings.TrimPrefix(err.Error(), "elicit: ")))
+			out.WarningCode = append(out.WarningCode, "no_alternative")
+		}
+	}
+	for _, w := range c.Warnings {
+		out.Warnings = append(out.Warnings, w.Message)
+		out.WarningCode = append(out.WarningCode, string(w.Code))
+	}
+	if !finite(nums...) {
+		return priorOutput{}, errors.New("the construction produced a non-finite number; nothing printed")
+	}
+	return out, nil
+}
+
+// intervalFlag renames elicit's fields for the interval to the flag that
+// carries them: low and high are --interval's items 0 and 1.
+func intervalFlag(err error) error {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	field := map[string]string{"low": "interval[0]", "high": "interval[1]"}[ie.Field]
+	if field == "" {
+		return err
+	}
+	return &elicit.InputError{Field: field, Rule: ie.Rule, Detail: ie.Detail}
+}
+
+func writePriorText(w io.Writer, o priorOutput) error {
+	var b strings.Builder
+	fmt.Fprintf(&b, "Beta(%.6g, %.6g) on [%g, %g]\n", o.Alpha, o.Beta, o.Lower, o.Upper)
+	fmt.Fprintf(&b, "made from: %s\n", o.Description)
+	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Q05, o.Q50, o.Q95)
+	if o.CoverageAchieved != nil {
+		fmt.Fprintf(&b, "the interval [%g, %g] holds %.4g%% of this prior (asked %g%%): %.4g%% below it, %.4g%% above it\n",
+			o.Input.Low, o.Input.High, 100**o.CoverageAchieved, 100*o.Input.Coverage, 100**o.BelowLow, 100**o.AboveHigh)
+	}
+	if alt := o.Alternative; alt != nil {
+		name := "exact quantile match"
+		if alt.Method == string(elicit.MethodIntervalMoments) {
+			name = "moment match"
+		}
+		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%.6g, %.6g), which holds %.4g%% of its probability there\n", name, alt.Alpha, alt.Beta, 100*alt.CoverageAchieved)
+	}
+	fmt.Fprintf(&b, "%s\n", o.Worth)
+	for _, m := range o.Warnings {
+		fmt.Fprintf(&b, "warning: %s\n", m)
+	}
+	fmt.Fprintln(&b, priorCaution)
+	_, err := io.WriteString(w, b.String())
+	return err
+}

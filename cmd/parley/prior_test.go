@@ -1,0 +1,230 @@
+package main
+
+import (
+	"bytes"
+	"encoding/json"
+	"math"
+	"os/exec"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+func TestPriorJSON(t *testing.T) {
+	cases := []struct {
+		name     string
+		args     []string
+		method   string
+		alpha    float64
+		beta     float64
+		interval bool
+		coverage float64 // wanted coverage_achieved, when interval
+		tol      float64
+	}{
+		// Beta(1, 1): every value equally likely.
+		{"uniform", []string{"--uniform"}, "equivalent", 1, 1, false, 0, 0},
+		// "About 3 in 25": Beta(s, n − s) = Beta(3, 22).
+		{"equivalent sample", []string{"--successes", "3", "--trials", "25"}, "equivalent_sample", 3, 22, false, 0, 0},
+		// Mean 0.1, sd 0.05: k = 0.09/0.0025 − 1 = 35, Beta(3.5, 31.5).
+		{"mean and sd", []string{"--mean", "0.1", "--sd", "0.05"}, "mean_sd", 3.5, 31.5, false, 0, 1e-12},
+		// [0.03, 0.12] at 90% by exact quantile match: R's nested uniroot
+		// (testdata/r/interval_match_reference.csv, "solved" row) gives
+		// Beta(5.6770622183254389, 76.53743512784844); 5% in each tail.
+		{"interval quantiles", []string{"--interval", "0.03,0.12", "--coverage", "0.9"}, "interval_quantiles", 5.6770622183254389, 76.53743512784844, true, 0.9, 1e-7},
+		// The same by moment match: R gives Beta(6.8767435973284874,
+		// 84.813171033718021), holding 1 − 0.0223547 − 0.0646263 of its
+		// probability in the interval ("moments" row).
+		{"interval moments", []string{"--interval", "0.03,0.12", "--coverage", "0.9", "--method", "moments"}, "interval_moments", 6.8767435973284874, 84.813171033718021, true, 1 - 0.022354728177137299 - 0.06462633569679406, 1e-9},
+	}
+	cases[0].method = "uniform"
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, "", append([]string{"prior", "--format", "json"}, c.args...)...)
+			if code != 0 {
+				t.Fatalf("exit %d: %s", code, errOut)
+			}
+			var keys map[string]json.RawMessage
+			decodeJSON(t, out, &keys)
+			for _, k := range []string{"alpha", "beta", "method", "mean", "sd", "q05", "q50", "q95"} {
+				if _, ok := keys[k]; !ok {
+					t.Errorf("key %q missing", k)
+				}
+			}
+			if _, ok := keys["coverage_achieved"]; ok != c.interval {
+				t.Errorf("coverage_achieved present %v, want %v", ok, c.interval)
+			}
+			var got priorOutput
+			decodeJSON(t, out, &got)
+			if got.Method != c.method || !nearRel(got.Alpha, c.alpha, c.tol) || !nearRel(got.Beta, c.beta, c.tol) {
+				t.Errorf("%s Beta(%.12g, %.12g), want %s Beta(%.12g, %.12g)", got.Method, got.Alpha, got.Beta, c.method, c.alpha, c.beta)
+			}
+			d := elicit.Beta{Alpha: got.Alpha, Beta: got.Beta}
+			if got.Mean != d.Mean() || got.SD != d.SD() || got.Q05 != d.Quantile(0.05) || got.Q50 != d.Quantile(0.5) || got.Q95 != d.Quantile(0.95) {
+				t.Errorf("summaries %+v", got)
+			}
+			if c.interval && math.Abs(*got.CoverageAchieved-c.coverage) > 1e-9 {
+				t.Errorf("coverage achieved %.12g, want %.12g", *got.CoverageAchieved, c.coverage)
+			}
+			if c.interval && (got.Alternative == nil || got.Alternative.Method == got.Method) {
+				t.Errorf("the other interval method is missing: %+v", got.Alternative)
+			}
+		})
+	}
+}
+
+// TestPriorScaled: on [0, 200], mean 50 and sd 20 are m = 0.25 and
+// sd = 0.1 on the unit scale: k = 0.1875/0.01 − 1 = 17.75, Beta(4.4375,
+// 13.3125), whose own mean and sd on [0, 200] are 50 and 20 again.
+func TestPriorScaled(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "prior", "--mean", "50", "--sd", "20", "--lower", "0", "--upper", "200", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got priorOutput
+	decodeJSON(t, out, &got)
+	if !nearRel(got.Alpha, 4.4375, 1e-12) || !nearRel(got.Beta, 13.3125, 1e-12) || got.Upper != 200 ||
+		!nearRel(got.Mean, 50, 1e-12) || !nearRel(got.SD, 20, 1e-12) || !(got.Q05 > 0 && got.Q95 < 200) {
+		t.Errorf("scaled: %+v", got)
+	}
+}
+
+func TestPriorText(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "prior", "--interval", "0.001,0.999", "--coverage", "0.5")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{
+		"Beta(0.102536, 0.102536) on [0, 1]",
+		"by exact quantile match",
+		"holds 50% of this prior (asked 50%): 25% below it, 25% above it",
+		"the interval_moments method gives no prior for this interval",
+		"U-shaped",
+		"worth about 0.205 imagined trials",
+		"Caution:",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+}
+
+func TestPriorBadInput(t *testing.T) {
+	iv := []string{"prior", "--interval", "0.03,0.12", "--coverage", "0.9"}
+	with := func(base []string, more ...string) []string { return append(append([]string{}, base...), more...) }
+	tests := []struct {
+		name string
+		args []string
+		want []string
+	}{
+		{"nothing", []string{"prior"}, []string{"--uniform", "exactly one construction"}},
+		{"uniform false", []string{"prior", "--uniform=false"}, []string{"--uniform", "exactly one construction"}},
+		{"two constructions", []string{"prior", "--mean", "0.1", "--sd", "0.05", "--interval", "0.1,0.2"}, []string{"--interval", "cannot be combined with --mean"}},
+		{"uniform and sample", []string{"prior", "--uniform", "--successes", "3"}, []string{"--successes", "cannot be combined with --uniform"}},
+		{"successes alone", []string{"prior", "--successes", "3"}, []string{"--trials", "is required with --successes"}},
+		{"trials alone", []string{"prior", "--trials", "25"}, []string{"--successes", "is required with --trials"}},
+		{"successes zero", []string{"prior", "--successes", "0", "--trials", "25"}, []string{"successes", string(elicit.RulePositive)}},
+		{"successes = trials", []string{"prior", "--successes", "25", "--trials", "25"}, []string{"successes", string(elicit.RuleBelowTrials)}},
+		{"successes syntax", []string{"prior", "--successes", "three", "--trials", "25"}, []string{"successes", "plain decimal"}},
+		{"trials huge", []string{"prior", "--successes", "3", "--trials", "2e9"}, []string{"trials", string(elicit.RuleShapeTooLarge)}},
+		{"trials NaN", []string{"prior", "--successes", "3", "--trials", "NaN"}, []string{"trials", "plain decimal"}},
+		{"sample scaled", []string{"prior", "--successes", "3", "--trials", "25", "--upper", "100"}, []string{"--upper", "equivalent prior sample"}},
+		{"sd alone", []string{"prior", "--sd", "0.05"}, []string{"--mean", "is required with --sd"}},
+		{"mean outside", []string{"prior", "--mean", "1.2", "--sd", "0.05"}, []string{"mean", string(elicit.RuleValueInBounds)}},
+		{"mean overflow", []string{"prior", "--mean", "1e999", "--sd", "0.05"}, []string{"mean", string(elicit.RuleFinite)}},
+		{"sd negative", []string{"prior", "--mean", "0.1", "--sd", "-0.05"}, []string{"sd", string(elicit.RulePositive)}},
+		{"sd infeasible", []string{"prior", "--mean", "0.5", "--sd", "0.5"}, []string{"sd", string(elicit.RuleVarianceFeasible)}},
+		{"sd too small", []string{"prior", "--mean", "0.5", "--sd", "1e-9"}, []string{"sd", string(elicit.RuleShapeTooLarge)}},
+		{"interval one end", []string{"prior", "--interval", "0.1", "--coverage", "0.9"}, []string{"--interval", "two numbers"}},
+		{"interval three", []string{"prior", "--interval", "0.1,0.2,0.3", "--coverage", "0.9"}, []string{"--interval", "two numbers"}},
+		{"interval empty", []string{"prior", "--interval", "", "--coverage", "0.9"}, []string{"interval", string(elicit.RuleRequired)}},
+		{"interval syntax", []string{"prior", "--interval", "0.1,1/5", "--coverage", "0.9"}, []string{"interval[1]", "plain decimal"}},
+		{"interval reversed", []string{"prior", "--interval", "0.2,0.1", "--coverage", "0.9"}, []string{"interval[1]", string(elicit.RuleValueIncreasing)}},
+		{"interval at 0", []string{"prior", "--interval", "0,0.1", "--coverage", "0.9"}, []string{"interval[0]", string(elicit.RuleValueInBounds)}},
+		{"interval too narrow", []string{"prior", "--interval", "0.1,0.1000001", "--coverage", "0.9"}, []string{"interval", string(elicit.RuleShapeTooLarge)}},
+		{"interval too wide for moments", with(iv[:1], "--interval", "0.01,0.99", "--coverage", "0.5", "--method", "moments"), []string{"interval", string(elicit.RuleVarianceFeasible)}},
+		{"coverage alone", []string{"prior", "--coverage", "0.9"}, []string{"--interval", "is required with --coverage"}},
+		{"coverage percent", []string{"prior", "--interval", "0.03,0.12", "--coverage", "90"}, []string{"coverage", string(elicit.RuleProbOpen)}},
+		{"coverage percent sign", []string{"prior", "--interval", "0.03,0.12", "--coverage", "90%"}, []string{"coverage", "plain decimal"}},
+		{"method unknown", with(iv, "--method", "median"), []string{"--method", "quantiles or moments"}},
+		{"method without interval", []string{"prior", "--mean", "0.1", "--sd", "0.05", "--method", "moments"}, []string{"--method", "applies only to --interval"}},
+		{"bounds reversed", []string{"prior", "--uniform", "--lower", "5", "--upper", "1"}, []string{"lower", string(elicit.RuleBoundsOrder)}},
+		{"lower syntax", []string{"prior", "--uniform", "--lower", "0x0"}, []string{"lower", "plain decimal"}},
+		{"upper overflow", []string{"prior", "--uniform", "--upper", "1e400"}, []string{"upper", string(elicit.RuleFinite)}},
+		{"interval outside scaled", with(iv, "--lower", "0.05"), []string{"interval[0]", string(elicit.RuleValueInBounds)}},
+		{"format", with(iv, "--format", "csv"), []string{"format", "text or json"}},
+		{"unknown flag", with(iv, "--coverge", "0.9"), []string{"coverge"}},
+		{"stray argument", with(iv, "0.5"), []string{"0.5", "unexpected argument"}},
+	}
+	for _, tc := range tests {
+		t.Run(tc.name, func(t *testing.T) {
+			code, out, errOut := runCLI(t, "", tc.args...)
+			if code != exitBadInput {
+				t.Errorf("exit %d, want 2; stderr %q", code, errOut)
+			}
+			if out != "" {
+				t.Errorf("stdout %q, want nothing", out)
+			}
+			if strings.Count(errOut, "\n") != 1 || !strings.HasSuffix(errOut, "\n") {
+				t.Errorf("stderr is not one line: %q", errOut)
+			}
+			for _, w := range tc.want {
+				if !strings.Contains(errOut, w) {
+					t.Errorf("stderr %q does not contain %q", errOut, w)
+				}
+			}
+		})
+	}
+}
+
+// TestPriorPlanBinary: the real binary, exit status and streams as a
+// shell sees them.
+func TestPriorPlanBinary(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	bin := filepath.Join(t.TempDir(), "parley")
+	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
+		t.Fatalf("go build: %v\n%s", err, out)
+	}
+	tests := []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"prior", "--interval", "0.03,0.12", "--coverage", "0.9", "--format", "json"}, 0, `"coverage_achieved"`},
+		{[]string{"prior", "--successes", "3", "--trials", "25"}, 0, "Beta(3, 22) on [0, 1]"},
+		{[]string{"prior", "--interval", "0.2,0.1", "--coverage", "0.9"}, 2, "interval[1]: " + string(elicit.RuleValueIncreasing)},
+		{[]string{"prior", "--mean", "0.1"}, 2, "--sd: is required with --mean"},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "50", "--format", "json"}, 0, `"predictive"`},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "100", "--threshold", "0.08", "--direction", "below", "--confidence", "0.95"}, 0, "assurance that P(θ < 0.08 | data) ≥ 0.95 after 100 trials"},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "0"}, 2, "trials: " + string(elicit.RuleCountRange)},
+		{[]string{"plan", "--alpha", "2", "--beta", "38", "--trials", "50", "--length", "0.2", "--criterion", "median"}, 2, "criterion: " + string(elicit.RuleUnknown)},
+	}
+	for _, tc := range tests {
+		cmd := exec.Command(bin, tc.args...)
+		var out, errOut bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &errOut
+		err := cmd.Run()
+		code := 0
+		if ee, ok := err.(*exec.ExitError); ok {
+			code = ee.ExitCode()
+		} else if err != nil {
+			t.Fatal(err)
+		}
+		if code != tc.code {
+			t.Errorf("%v: exit %d, want %d; stderr %q", tc.args, code, tc.code, errOut.String())
+		}
+		text := out.String()
+		if tc.code != 0 {
+			text = errOut.String()
+			if strings.Count(text, "\n") != 1 || strings.Contains(text, "goroutine") || out.Len() != 0 {
+				t.Errorf("%v: stderr %q, stdout %q", tc.args, text, out.String())
+			}
+		}
+		if !strings.Contains(text, tc.want) {
+			t.Errorf("%v: output %q does not contain %q", tc.args, text, tc.want)
+		}
+	}
+}

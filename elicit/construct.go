@@ -1,0 +1,236 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+)
+
+// Limits of every quick construction: α and β in [MinPriorShape,
+// MaxPriorShape], the box FitQuantiles searches. Above 1e9 gonum's
+// incomplete beta function loses the accuracy Parley needs (see
+// MaxUpdateTrials); below 1e-6 nearly all the probability sits within a
+// rounding error of the bounds.
+const (
+	MinPriorShape = 1e-6
+	MaxPriorShape = 1e9
+)
+
+// Rules of the quick constructions beyond those of their inputs.
+const (
+	RuleShapeTooLarge     Rule = "the Beta would need alpha or beta above 1e9"
+	RuleShapeTooSmall     Rule = "the Beta would need alpha or beta below 1e-6"
+	RuleSampleOnUnitScale Rule = "an equivalent prior sample describes a proportion on [0, 1]"
+)
+
+// checkShapeLimits refuses a constructed Beta outside [MinPriorShape,
+// MaxPriorShape], naming the input that led there.
+func checkShapeLimits(field string, d Beta) error {
+	switch {
+	case d.Alpha > MaxPriorShape || d.Beta > MaxPriorShape:
+		return inputErr(field, RuleShapeTooLarge, "Beta(%.3g, %.3g)", d.Alpha, d.Beta)
+	case d.Alpha < MinPriorShape || d.Beta < MinPriorShape:
+		return inputErr(field, RuleShapeTooSmall, "Beta(%.3g, %.3g)", d.Alpha, d.Beta)
+	}
+	return nil
+}
+
+// ConstructionMethod names one quick construction of a Beta prior.
+type ConstructionMethod string
+
+// The quick constructions; see Construct.
+const (
+	MethodUniform           ConstructionMethod = "uniform"
+	MethodEquivalentSample  ConstructionMethod = "equivalent_sample"
+	MethodMeanSD            ConstructionMethod = "mean_sd"
+	MethodIntervalMoments   ConstructionMethod = "interval_moments"
+	MethodIntervalQuantiles ConstructionMethod = "interval_quantiles"
+)
+
+// ConstructionInput is what a person gave for a quick construction: the
+// method and its numbers, on the quantity's scale [Lower, Upper]. A method
+// reads only its own fields (Successes and Trials; Mean and SD; Low, High
+// and Coverage) and leaves the others zero.
+type ConstructionInput struct {
+	Method    ConstructionMethod `json:"method"`
+	Successes float64            `json:"successes"`
+	Trials    float64            `json:"trials"`
+	Mean      float64            `json:"mean"`
+	SD        float64            `json:"sd"`
+	Low       float64            `json:"low"`
+	High      float64            `json:"high"`
+	Coverage  float64            `json:"coverage"`
+	Lower     float64            `json:"lower"`
+	Upper     float64            `json:"upper"`
+}
+
+// Construction is a Beta prior made by a quick construction, with the
+// input that made it, so that a record can say how the prior was set and
+// the prior can be made again from it.
+type Construction struct {
+	Input ConstructionInput `json:"input"`
+	Dist  ScaledBeta        `json:"dist"`
+	// For the interval methods: the probability Dist gives to
+	// [Low, High], and to each side of it. The exact quantile match
+	// achieves the asked coverage (each tail to matchTol: 1e-9 relative
+	// for α + β up to 1e5); the
+	// moment match only approximately. Zero for the other methods.
+	CoverageAchieved float64 `json:"coverage_achieved"`
+	BelowLow         float64 `json:"below_low"`
+	AboveHigh        float64 `json:"above_high"`
+	// Warnings are the shapes a reader should look at twice, with the
+	// codes of a fit's warnings: U- or J-shaped, or near-certainty.
+	Warnings []Warning `json:"warnings"`
+}
+
+// IsInterval reports whether the method is one of the interval methods.
+func (m ConstructionMethod) IsInterval() bool {
+	return m == MethodIntervalMoments || m == MethodIntervalQuantiles
+}
+
+// Construct makes a Beta prior on [in.Lower, in.Upper] by one quick
+// construction:
+//
+//   - MethodUniform: Beta(1, 1), every value equally likely (Uniform).
+//   - MethodEquivalentSample: Beta(s, n − s) for s successes in n
+//     imagined trials (EquivalentSample; needs s > 0 and n − s > 0, and
+//     the bounds [0, 1]: imagined trials describe a proportion).
+//   - MethodMeanSD: the method of moments (FromMeanSD) on the unit scale,
+//     m = (mean − lower)/w and sd/w with w = upper − lower; feasible only
+//     when sd² < (mean − lower)(upper − mean).
+//   - MethodIntervalMoments: the central interval [low, high] with its
+//     coverage by the moment match (FromIntervalMoments).
+//   - MethodIntervalQuantiles: the same interval by the exact quantile
+//     match (FromIntervalQuantiles).
+//
+// Every input is checked with its field named; a Beta with α or β
+// outside [MinPriorShape, MaxPriorShape] is refused.
+func Construct(in ConstructionInput) (Construction, error) {
+	if err := checkBounds(in.Lower, in.Upper); err != nil {
+		return Construction{}, err
+	}
+	lower, w := in.Lower, in.Upper-in.Lower
+	unit := func(v float64) float64 { return (v - lower) / w }
+	var d Beta
+	var err error
+	switch in.Method {
+	case MethodUniform:
+		d = Uniform()
+	case MethodEquivalentSample:
+		if in.Lower != 0 || in.Upper != 1 {
+			return Construction{}, inputErr("lower", RuleSampleOnUnitScale, "bounds [%v, %v]", in.Lower, in.Upper)
+		}
+		d, err = EquivalentSample(in.Successes, in.Trials)
+	case MethodMeanSD:
+		if err := checkInBounds("mean", in.Mean, in.Lower, in.Upper); err != nil {
+			return Construction{}, err
+		}
+		if err := checkPositive("sd", in.SD); err != nil {
+			return Construction{}, err
+		}
+		if limit := (in.Mean - in.Lower) * (in.Upper - in.Mean); !(in.SD*in.SD < limit) {
+			return Construction{}, inputErr("sd", RuleVarianceFeasible,
+				"sd² = %.6g, but a mean of %v on [%v, %v] allows a variance below %.6g", in.SD*in.SD, in.Mean, in.Lower, in.Upper, limit)
+		}
+		d, err = FromMeanSD(unit(in.Mean), in.SD/w)
+	case MethodIntervalMoments, MethodIntervalQuantiles:
+		if err := checkScaledInterval(in); err != nil {
+			return Construction{}, err
+		}
+		if in.Method == MethodIntervalMoments {
+			d, err = FromIntervalMoments(unit(in.Low), unit(in.High), in.Coverage)
+		} else {
+			d, err = FromIntervalQuantiles(unit(in.Low), unit(in.High), in.Coverage)
+		}
+	default:
+		return Construction{}, inputErr("method", RuleUnknown, "%q", in.Method)
+	}
+	if err != nil {
+		return Construction{}, err
+	}
+	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d)}
+	if in.Method.IsInterval() {
+		c.BelowLow = d.CDF(unit(in.Low))
+		c.AboveHigh = d.dist().Survival(unit(in.High))
+		c.CoverageAchieved = 1 - c.BelowLow - c.AboveHigh
+	}
+	return c, nil
+}
+
+// checkInBounds checks that v is finite and strictly inside (lower, upper).
+func checkInBounds(field string, v, lower, upper float64) error {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return inputErr(field, RuleFinite, "got %v", v)
+	}
+	if !(v > lower && v < upper) {
+		return inputErr(field, RuleValueInBounds, "%v not inside (%v, %v)", v, lower, upper)
+	}
+	return nil
+}
+
+// checkScaledInterval checks an interval on the quantity's scale before it
+// is moved to [0, 1], so that messages carry the person's own numbers.
+func checkScaledInterval(in ConstructionInput) error {
+	if err := checkInBounds("low", in.Low, in.Lower, in.Upper); err != nil {
+		return err
+	}
+	if err := checkInBounds("high", in.High, in.Lower, in.Upper); err != nil {
+		return err
+	}
+	if !(in.Low < in.High) {
+		return inputErr("high", RuleValueIncreasing, "%v after %v", in.High, in.Low)
+	}
+	if math.IsNaN(in.Coverage) || math.IsInf(in.Coverage, 0) {
+		return inputErr("coverage", RuleFinite, "got %v", in.Coverage)
+	}
+	if !(in.Coverage > 0 && in.Coverage < 1) {
+		return inputErr("coverage", RuleProbOpen, "got %v", in.Coverage)
+	}
+	return nil
+}
+
+// Describe says in one line how the prior was made, for a record.
+func (c Construction) Describe() string {
+	in := c.Input
+	scale := ""
+	if in.Lower != 0 || in.Upper != 1 {
+		scale = fmt.Sprintf(" on [%g, %g]", in.Lower, in.Upper)
+	}
+	switch in.Method {
+	case MethodUniform:
+		return "uniform" + scale + ", Beta(1, 1): every value equally likely"
+	case MethodEquivalentSample:
+		return fmt.Sprintf("equivalent prior sample: %g successes in %g imagined trials, Beta(s, n − s) = Beta(%g, %g)", in.Successes, in.Trials, c.Dist.Alpha, c.Dist.Beta.Beta)
+	case MethodMeanSD:
+		return fmt.Sprintf("mean %g and standard deviation %g%s by the method of moments", in.Mean, in.SD, scale)
+	case MethodIntervalMoments:
+		return fmt.Sprintf("central %g%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %.4g%%", 100*in.Coverage, in.Low, in.High, scale, 100*c.CoverageAchieved)
+	case MethodIntervalQuantiles:
+		return fmt.Sprintf("central %g%% interval [%g, %g]%s by exact quantile match; it holds %.4g%%", 100*in.Coverage, in.Low, in.High, scale, 100*c.CoverageAchieved)
+	}
+	return string(in.Method)
+}
+
+// constructionWarnings flags a constructed Beta that is U-shaped (α and β
+// below 1), J-shaped (one of them below 1) or worth more than
+// NearCertaintyESS trials, as a fit's warnings do, in words for whoever
+// set the prior.
+func constructionWarnings(d Beta) []Warning {
+	w := []Warning{}
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a < 1 && b < 1:
+		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
+			"This prior is U-shaped (alpha %.3g and beta %.3g are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", a, b)})
+	case a < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"This prior is J-shaped (alpha %.3g is below 1): its density rises without limit towards the lower bound.", a)})
+	case b < 1:
+		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
+			"This prior is J-shaped (beta %.3g is below 1): its density rises without limit towards the upper bound.", b)})
+	}
+	if ess := a + b; ess > NearCertaintyESS {
+		w = append(w, Warning{WarnNearCertainty, fmt.Sprintf(
+			"This prior is worth about %.0f observed trials (alpha+beta above %d): it implies near-certainty. Check that this much certainty is meant.", ess, NearCertaintyESS)})
+	}
+	return w
+}

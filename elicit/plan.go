@@ -1,0 +1,281 @@
+package elicit
+
+import (
+	"fmt"
+	"math"
+
+	"gonum.org/v1/gonum/mathext"
+)
+
+// Planning a study from a Beta prior for a proportion θ: the prior
+// predictive distribution of the number of successes, assurance, sample
+// size for estimation (plan_samplesize.go) and what the prior is worth in
+// trials. Everything is computed exactly, by summing over the
+// beta-binomial distribution of the study's outcome, not by simulation:
+// with X | θ ~ Binomial(n, θ) and θ ~ Beta(A, B),
+//
+//	P(X = x) = C(n, x) B(A + x, B + n − x) / B(A, B),  x = 0…n
+//
+// (PriorPredictive), and after x successes the posterior is
+// Beta(A + x, B + n − x) (Posterior).
+
+// Rules of the planning inputs.
+const (
+	RuleSampleSizeUnreachable Rule = "no sample size up to the limit meets the criterion"
+)
+
+// Direction says which side of the threshold a study's success lies.
+type Direction string
+
+// The directions of a success criterion.
+const (
+	DirectionBelow Direction = "below" // success: P(θ < T | data) ≥ G
+	DirectionAbove Direction = "above" // success: P(θ > T | data) ≥ G
+)
+
+// SuccessCriterion is a study's goal stated on its posterior: the study
+// succeeds when P(θ < Threshold | data) ≥ Confidence (DirectionBelow) or
+// P(θ > Threshold | data) ≥ Confidence (DirectionAbove).
+type SuccessCriterion struct {
+	Threshold  float64   `json:"threshold"`
+	Direction  Direction `json:"direction"`
+	Confidence float64   `json:"confidence"`
+}
+
+// Validate checks the threshold and the confidence, both strictly inside
+// (0, 1), and the direction.
+func (s SuccessCriterion) Validate() error {
+	if err := checkOpenProb("threshold", s.Threshold); err != nil {
+		return err
+	}
+	if s.Direction != DirectionBelow && s.Direction != DirectionAbove {
+		return inputErr("direction", RuleUnknown, "%q: below or above", s.Direction)
+	}
+	return checkOpenProb("confidence", s.Confidence)
+}
+
+// checkOpenProb checks that v is finite and strictly inside (0, 1).
+func checkOpenProb(field string, v float64) error {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return inputErr(field, RuleFinite, "got %v", v)
+	}
+	if !(v > 0 && v < 1) {
+		return inputErr(field, RuleProbOpen, "got %v", v)
+	}
+	return nil
+}
+
+// checkPlanTrials checks a planned number of trials against [min, max].
+func checkPlanTrials(n, min, max int) error {
+	if n < min || n > max {
+		return inputErr("trials", RuleCountRange, "%d is outside %d to %d", n, min, max)
+	}
+	return nil
+}
+
+// AssuranceResult is the assurance of a study of Trials trials, and the
+// outcomes that count as success.
+type AssuranceResult struct {
+	Trials    int     `json:"trials"`
+	Assurance float64 `json:"assurance"`
+	// The study succeeds exactly when its number of successes lies in
+	// [SuccessFrom, SuccessTo]; when no outcome succeeds SuccessFrom >
+	// SuccessTo.
+	SuccessFrom int `json:"success_from"`
+	SuccessTo   int `json:"success_to"`
+}
+
+// Assurance is the probability, under the prior predictive distribution,
+// that a study of n trials meets the success criterion (O'Hagan, Stevens
+// & Campbell 2005, "Assurance in clinical trial design", Pharmaceut.
+// Statist. 4(3)):
+//
+//	assurance = Σₓ P(X = x) · 1[P(θ < T | x) ≥ G]   (below; θ > T for above)
+//
+// with P(θ < T | x) = I_T(A + x, B + n − x). The posterior Beta(A + x,
+// B + n − x) rises in likelihood-ratio order with x, so P(θ < T | x) falls
+// with x and the successful outcomes are x = 0…x* (below) or x*…n
+// (above): x* is found by bisection over x, and the sum runs over those
+// outcomes (predictiveSum). It needs a valid prior and
+// 0 ≤ n ≤ MaxPredictiveTrials.
+func Assurance(prior Beta, n int, goal SuccessCriterion) (AssuranceResult, error) {
+	if err := prior.Validate(); err != nil {
+		return AssuranceResult{}, err
+	}
+	if err := goal.Validate(); err != nil {
+		return AssuranceResult{}, err
+	}
+	if err := checkPlanTrials(n, 0, MaxPredictiveTrials); err != nil {
+		return AssuranceResult{}, err
+	}
+	return assurance(prior, n, goal), nil
+}
+
+// assurance is Assurance for valid input.
+func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
+	below := goal.Direction == DirectionBelow
+	// succeeds(x): the posterior after x successes meets the criterion.
+	succeeds := func(x int) bool {
+		p := newPosterior(prior.Alpha+float64(x), prior.Beta+float64(n-x))
+		if below {
+			return p.cdf(goal.Threshold) >= goal.Confidence
+		}
+		return p.sf(goal.Threshold) >= goal.Confidence
+	}
+	// Bisect for the boundary between failing and succeeding outcomes:
+	// below, succeeds is true on 0…x* and false after; above, false
+	// before x* and true on x*…n. lo and hi are the last outcome known
+	// on the first side and the first known on the second (−1 and n + 1
+	// stand for "none").
+	lo, hi := -1, n+1
+	for hi-lo > 1 {
+		mid := lo + (hi-lo)/2
+		if succeeds(mid) == below {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	r := AssuranceResult{Trials: n, SuccessFrom: 0, SuccessTo: lo}
+	if !below {
+		r.SuccessFrom, r.SuccessTo = hi, n
+	}
+	r.Assurance = predictiveSum(prior, n, r.SuccessFrom, r.SuccessTo)
+	return r
+}
+
+// predictiveSum is P(from ≤ X ≤ to) under the beta-binomial prior
+// predictive of n trials, summed term by term in logs as PriorPredictive
+// does, from the end of the distribution inwards so that a small sum keeps
+// its relative precision; when the span is more than half the outcomes it
+// is 1 minus the sum over the others, so a point of an assurance curve
+// costs at most (n + 1)/2 terms whatever its side.
+func predictiveSum(prior Beta, n, from, to int) float64 {
+	if from > to {
+		return 0
+	}
+	if 2*(to-from+1) > n+1 {
+		return math.Max(0, 1-predictiveSum(prior, n, 0, from-1)-predictiveSum(prior, n, to+1, n))
+	}
+	a, b := prior.Alpha, prior.Beta
+	lgN, _ := math.Lgamma(float64(n) + 1)
+	lbPrior := mathext.Lbeta(a, b)
+	term := func(x int) float64 {
+		fx, fnx := float64(x), float64(n-x)
+		lgx, _ := math.Lgamma(fx + 1)
+		lgnx, _ := math.Lgamma(fnx + 1)
+		return math.Exp(lgN - lgx - lgnx + mathext.Lbeta(fx+a, fnx+b) - lbPrior)
+	}
+	var sum neumaierSum
+	if from == 0 || to != n && from < n-to {
+		for x := from; x <= to; x++ {
+			sum.add(term(x))
+		}
+	} else {
+		for x := to; x >= from; x-- {
+			sum.add(term(x))
+		}
+	}
+	return math.Min(sum.sum(), 1)
+}
+
+// AssuranceCurve is the assurance at each planned number of trials in
+// ns, each as Assurance. It is not monotone in n: with a discrete outcome
+// the set of successful outcomes moves in whole steps, so the curve has
+// teeth (see TestAssuranceCurveTeeth).
+func AssuranceCurve(prior Beta, goal SuccessCriterion, ns []int) ([]AssuranceResult, error) {
+	if err := prior.Validate(); err != nil {
+		return nil, err
+	}
+	if err := goal.Validate(); err != nil {
+		return nil, err
+	}
+	out := make([]AssuranceResult, len(ns))
+	for i, n := range ns {
+		if err := checkPlanTrials(n, 0, MaxPredictiveTrials); err != nil {
+			return nil, err
+		}
+		out[i] = assurance(prior, n, goal)
+	}
+	return out, nil
+}
+
+// PlanGrid returns up to points numbers of trials from 1 to max for a
+// curve over n: every n when max ≤ points, else max·k/points rounded,
+// k = 1…points, without repeats. It returns nil for max < 1 or points < 1.
+func PlanGrid(max, points int) []int {
+	if max < 1 || points < 1 {
+		return nil
+	}
+	if max <= points {
+		ns := make([]int, max)
+		for i := range ns {
+			ns[i] = i + 1
+		}
+		return ns
+	}
+	ns := make([]int, 0, points)
+	for k := 1; k <= points; k++ {
+		n := int(math.Round(float64(max) * float64(k) / float64(points)))
+		if len(ns) == 0 || n > ns[len(ns)-1] {
+			ns = append(ns, n)
+		}
+	}
+	return ns
+}
+
+// PredictiveQuantile is the smallest outcome x with P(X ≤ x) ≥ p under
+// the distribution pmf of x = 0…len(pmf)−1 (such as PriorPredictive's),
+// for p in (0, 1]. Sums are compensated.
+func PredictiveQuantile(pmf []float64, p float64) int {
+	var sum neumaierSum
+	for x, v := range pmf {
+		sum.add(v)
+		if sum.sum() >= p {
+			return x
+		}
+	}
+	return len(pmf) - 1
+}
+
+// PriorWorth is what a Beta(α, β) prior is worth in imagined trials: its
+// effective sample size α + β, the number of binomial trials whose
+// information the prior carries under the conjugate update, as if α
+// successes and β failures had been seen (Morita, Thall & Müller 2008,
+// "Determining the effective sample size of a parametric prior",
+// Biometrics 64(2), where the ESS of Beta(α, β) is α + β).
+type PriorWorth struct {
+	Trials    float64 `json:"trials"`
+	Successes float64 `json:"successes"`
+	Failures  float64 `json:"failures"`
+}
+
+// Worth is the prior's effective sample size and its split into imagined
+// successes and failures.
+func Worth(d Beta) PriorWorth {
+	return PriorWorth{Trials: d.Alpha + d.Beta, Successes: d.Alpha, Failures: d.Beta}
+}
+
+// DataShare is n/(n + α + β), the weight n observed trials get in the
+// posterior mean: after x successes in n trials the posterior mean is
+// (1 − w)·α/(α + β) + w·x/n with w = DataShare(n), a weighted average of
+// the prior mean and the observed proportion (Gelman et al. 2013, BDA3
+// §2.4).
+func (w PriorWorth) DataShare(n int) float64 {
+	return float64(n) / (float64(n) + w.Trials)
+}
+
+// String says in plain words what the prior is worth.
+func (w PriorWorth) String() string {
+	return fmt.Sprintf("worth about %s imagined trials (%s successes and %s failures)",
+		roughly(w.Trials), roughly(w.Successes), roughly(w.Failures))
+}
+
+// roughly prints a count with three significant figures, without an
+// exponent below a billion.
+func roughly(v float64) string {
+	if v >= 100 && v < 1e9 {
+		return fmt.Sprintf("%.0f", v)
+	}
+	return fmt.Sprintf("%.3g", v)
+}
