@@ -186,10 +186,14 @@ func chance(p float64) string {
 
 // readBack turns one stated pair P(X ≤ x) = p into a sentence, speaking of
 // the smaller tail so that 95% reads "1 in 20 ... above".
-func readBack(p, x float64, units string) string {
+func readBack(p, x float64, units string, percent bool) string {
 	v := chart.FormatValue(x)
 	if u := strings.TrimSpace(units); u != "" {
 		v += " " + u
+	}
+	if percent {
+		// The expert typed percentages: speak in them.
+		v = chart.FormatPercent(x)
 	}
 	switch {
 	case p == 0.5:
@@ -227,11 +231,15 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 	if u := strings.TrimSpace(q.Units); u != "" {
 		units = " (" + u + ")"
 	}
+	valueSuffix := ""
+	if f.Proportion && f.Unit == unitPercent {
+		valueSuffix = "%" // typed as percentages
+	}
 	switch q.Format {
 	case elicit.FormatInterval:
-		add("lowest", "Lowest plausible value"+units, "", "")
-		add("highest", "Highest plausible value"+units, "", "")
-		add("best", "Best estimate"+units, "", "")
+		add("lowest", "Lowest plausible value"+units, "", valueSuffix)
+		add("highest", "Highest plausible value"+units, "", valueSuffix)
+		add("best", "Best estimate"+units, "", valueSuffix)
 		add("confidence", "How sure are you that the true value lies between your lowest and highest?", "A percentage, for example 80 for 80% sure.", "%")
 	case elicit.FormatChips:
 		for i := 0; i+1 < len(q.BinEdges); i++ {
@@ -245,7 +253,7 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 				hint = "Your median: as likely below as above."
 			}
 			add(fmt.Sprintf("values[%d]", i),
-				fmt.Sprintf("The value with a %s chance of being lower%s", chart.FormatPercent(p), units), hint, "")
+				fmt.Sprintf("The value with a %s chance of being lower%s", chart.FormatPercent(p), units), hint, valueSuffix)
 		}
 	}
 	return f
@@ -438,7 +446,7 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		cur := sc.own[n-1]
 		typed = answerValues(sc.question, cur.Answer)
 		if fit, err := fits.fit(sc.question, cur); err == nil {
-			preview = newPreview(sc.question, fit)
+			preview = newPreview(sc.question, fit, cur.Answer.Percent)
 		}
 	}
 	v := s.questionView(r, sc, typed, "")
@@ -464,12 +472,12 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	_, fit, ok := readAnswer(sc.question, f)
+	a, fit, ok := readAnswer(sc.question, f)
 	fragment := r.URL.Query().Get("fragment") == "1"
 	status := http.StatusOK
 	var p *previewView
 	if ok {
-		p = newPreview(sc.question, fit)
+		p = newPreview(sc.question, fit, a.Percent)
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil), f)}
@@ -516,7 +524,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
 		default:
 			applyErrors(&v.Form, f)
-			v.Preview = newPreview(sc.question, *fit)
+			v.Preview = newPreview(sc.question, *fit, a.Percent)
 		}
 		if closed != "" {
 			v.Open, v.Closed = false, closed
@@ -658,8 +666,9 @@ func answerSummary(q elicit.Question, a elicit.Answer) string {
 	return strings.Join(parts, "; ")
 }
 
-// newPreview turns a fit into the picture and its read-backs.
-func newPreview(q elicit.Question, fit elicit.Fit) *previewView {
+// newPreview turns a fit into the picture and its read-backs; percent
+// says the expert typed percentages, which the read-backs then use.
+func newPreview(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
 	p := &previewView{
 		Params: fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
 		Fit: chart.FitView{
@@ -678,14 +687,14 @@ func newPreview(q elicit.Question, fit elicit.Fit) *previewView {
 		}
 		pr, x := fit.Probs[i], fit.Stated[i]
 		p.Fit.Points = append(p.Fit.Points, chart.Point{X: x, P: pr})
-		line := readBack(pr, x, q.Units)
+		line := readBack(pr, x, q.Units, percent && q.Format != elicit.FormatChips)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
 		}
 		p.ReadBacks = append(p.ReadBacks, line)
 	}
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted %s puts the middle 90%% of the chance between %s and %s, with median %s.",
-		p.Params, chart.FormatValue(fit.Percentiles[0]), chart.FormatValue(fit.Percentiles[2]), chart.FormatValue(fit.Percentiles[1])))
+		p.Params, typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent)))
 	p.Warnings = expertWarnings(q, fit)
 	return p
 }

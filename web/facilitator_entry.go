@@ -96,7 +96,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	if n := len(own); n > 0 {
 		typed = answerValues(sc.q, own[n-1].Answer)
 		if fit, err := fits.fit(sc.q, own[n-1]); err == nil {
-			preview = newPreview(sc.q, fit)
+			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent)
 		}
 	}
 	v := s.entryView(sc, own, typed, "", string(elicit.ChannelInPerson))
@@ -150,11 +150,11 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	_, fit, _, ok := readEntry(sc.q, f)
+	a, fit, _, ok := readEntry(sc.q, f)
 	status := http.StatusOK
 	var p *previewView
 	if ok {
-		p = newPreview(sc.q, fit)
+		p = newPreview(sc.q, fit, a.Percent)
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)}
@@ -216,23 +216,23 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		case errors.Is(err, elicit.ErrRevoked):
 			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
 		case s.notSaved(r, f, err):
-			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit))
+			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit, a.Percent))
 			return
 		default:
 			s.fail(w, r, err)
 			return
 		}
-		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit))
+		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit, a.Percent))
 		return
 	}
 	http.Redirect(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)+"?saved=1", http.StatusSeeOther)
 }
 
-func newPreviewPtr(q elicit.Question, fit elicit.Fit) *previewView {
+func newPreviewPtr(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
 	if len(fit.Probs) == 0 {
 		return nil
 	}
-	return newPreview(q, fit)
+	return newPreview(q, fit, percent)
 }
 
 // expertView is one expert's page for the facilitator: each question

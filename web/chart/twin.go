@@ -36,8 +36,8 @@ var (
 		XTicks: 6, LegendCols: 2, NoteChars: 92, NoteLine: 15, NoteX: 70, TitleChars: 72}
 	// compactLayout is 360 units wide, about a phone's width, with fewer
 	// ticks, the legend in one column and notes wrapped.
-	compactLayout = layout{Name: "compact", Left: 54, PlotW: 288, Right: 18, Top: 44, DensityH: 108, Gap: 30, CDFH: 128, Below: 62,
-		XTicks: 4, LegendCols: 1, NoteChars: 44, NoteLine: 17, NoteX: 8, TitleChars: 40}
+	compactLayout = layout{Name: "compact", Left: 64, PlotW: 278, Right: 18, Top: 44, DensityH: 108, Gap: 30, CDFH: 128, Below: 62,
+		XTicks: 4, LegendCols: 1, NoteChars: 44, NoteLine: 17, NoteX: 8, TitleChars: 36}
 	// layouts are both, in the order the page carries them.
 	layouts = [...]layout{wideLayout, compactLayout}
 )
@@ -227,8 +227,9 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	for i, line := range titleLines {
 		g.XTitleLines = append(g.XTitleLines, noteLine{Text: line, Y: coord(cumul.bottom() + 42 + 17*float64(i))})
 	}
-	if len(titleLines) > 1 {
-		// A title wrapped under a narrow plot is centred on the picture.
+	if len(titleLines) > 1 || lay.Name == compactLayout.Name {
+		// Under a narrow plot the title is centred on the whole picture,
+		// which gives it the left margin's room too.
 		g.XTitleX = coord(lay.width() / 2)
 	}
 	extraTitle := 17 * float64(max(0, len(titleLines)-1))
@@ -360,6 +361,9 @@ func yAxes(lay layout, f frame, ts []tick, title, class string) axesGeom {
 		a.YTicks = append(a.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: t.Label, Value: t.Label})
 	}
 	tx, ty := f.Left-lay.Left*5/7, f.Top+f.Height/2
+	if lay.Name == compactLayout.Name {
+		tx = 15 // the title against the edge, the ticks' labels beside it
+	}
 	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
 	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	return a

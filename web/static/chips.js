@@ -67,8 +67,8 @@
     take.textContent = "−";
     take.setAttribute("aria-label", "Take a chip away " + labels[i]);
     take.tabIndex = -1;
-    buttons.appendChild(take);
     buttons.appendChild(add);
+    buttons.appendChild(take);
     var edge = document.createElement("span");
     edge.className = "chips-range";
     edge.textContent = labels[i].replace(/^from /, "").replace(" to ", "–");

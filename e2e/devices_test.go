@@ -1,0 +1,319 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/web"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// phoneWidths are the narrow screens every page must fit (issue 12).
+var phoneWidths = []int64{360, 390, 414}
+
+// deviceRig is a workshop with every answer format (an invented survey of
+// a district's water mains): a proportion at 5/50/95, a four-value
+// interval, chips, a repair time in days, and a calibration question.
+type deviceRig struct {
+	site    *site
+	ws      elicit.Workshop
+	qs      []elicit.Question
+	links   map[string]string // expert name → private link
+	experts []elicit.Expert
+}
+
+func newDeviceRig(t *testing.T) *deviceRig {
+	t.Helper()
+	s := startSite(t)
+	ctx := context.Background()
+	g := &deviceRig{site: s, links: map[string]string{}}
+	g.ws = elicit.Workshop{Title: "Water mains survey (invented)", Purpose: "Invented: priors for the condition of a district's cast-iron mains.", Invented: true}
+	if err := s.DB.CreateWorkshop(ctx, &g.ws); err != nil {
+		t.Fatal(err)
+	}
+	truth := 0.18
+	g.qs = []elicit.Question{
+		{Wording: "What proportion of the district's cast-iron mains will burst at least once in the next five years?", Quantity: "five-year burst proportion",
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault},
+		{Wording: "What proportion of the mains have lost more than a quarter of their wall?", Quantity: "wall-loss proportion",
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatInterval},
+		{Wording: "Where does the proportion of mains with internal corrosion lie? Place your chips.", Quantity: "corrosion proportion",
+			Lower: 0, Upper: 1, Format: elicit.FormatChips, BinEdges: elicit.DefaultBinEdges(0, 1), Chips: elicit.DefaultChips},
+		{Wording: "How many days does a burst main take to repair, from report to water back on?", Quantity: "repair time", Units: "days",
+			Lower: 0, Upper: 30, Format: elicit.FormatQuantiles, Probs: elicit.ProbsQuartiles},
+		{Wording: "What proportion of last year's inspected mains needed a new lining?", Quantity: "relined proportion",
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault, Calibration: true, TrueValue: &truth},
+	}
+	for i := range g.qs {
+		g.qs[i].WorkshopID = g.ws.ID
+		if err := s.DB.AddQuestion(ctx, &g.qs[i]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, n := range []string{"Amara Osei (invented)", "Bjorn Dahl (invented)", "Carmen Ruiz (invented)"} {
+		tok, hash, err := web.NewExpertToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := elicit.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Water utility (invented)"}
+		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		g.experts = append(g.experts, e)
+		g.links[n] = s.URL + "/e/" + tok + "/"
+	}
+	// Two experts have answered everything, so the third sees a panel.
+	answers := [][]elicit.Answer{
+		{{Values: []float64{0.02, 0.06, 0.15}}, {Lowest: 0.05, Highest: 0.3, Best: 0.12, Confidence: 0.8}, {Counts: []int{2, 6, 7, 5, 2, 1, 1, 0}},
+			{Values: []float64{1.5, 3, 6}}, {Values: []float64{0.1, 0.2, 0.35}}},
+		{{Values: []float64{0.04, 0.09, 0.2}, Percent: true}, {Lowest: 0.1, Highest: 0.4, Best: 0.2, Confidence: 0.7}, {Counts: []int{0, 3, 8, 8, 3, 2, 0, 0}},
+			{Values: []float64{2, 4, 8}}, {Values: []float64{0.12, 0.16, 0.22}}},
+	}
+	for i, as := range answers {
+		for j, a := range as {
+			rv := elicit.Revision{QuestionID: g.qs[j].ID, ExpertID: g.experts[i].ID, Answer: a, Reason: "From the district's own burst log (invented)."}
+			if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	return g
+}
+
+func (g *deviceRig) wsURL() string { return g.site.URL + "/w/" + strconv.FormatInt(g.ws.ID, 10) }
+
+// fits checks the page at the person's current width: no sideways
+// scroll of the page, and every visible picture keeps its labels and
+// markers inside its box with text at 11 px or more.
+func fits(t *testing.T, p *person, where string, width int64) {
+	t.Helper()
+	if sw := eval[int64](p, "page width", `document.documentElement.scrollWidth`); sw > width {
+		wide := eval[[]string](p, "what is too wide", fmt.Sprintf(`Array.from(document.querySelectorAll("body *")).filter(e => e.getBoundingClientRect().right > %d + 0.5 && !e.closest(".table, .chart-table, .table-scroll, .map-scroll, .chart")).slice(-4).map(e => e.tagName + "." + e.className + " " + Math.round(e.getBoundingClientRect().right))`, width))
+		t.Errorf("%s at %d px: the page scrolls sideways (%d px wide): %v", where, width, sw, wide)
+	}
+	problems := eval[[]string](p, "pictures' boxes", `(() => {
+		const out = [];
+		for (const svg of document.querySelectorAll("svg.chart-svg")) {
+			if (!svg.getClientRects().length || getComputedStyle(svg).display === "none") continue;
+			if (svg.closest(".map-scroll, .chart-weight-map, .chart-steadiness")) continue; // drawn wide, scrolled inside
+			const vb = svg.viewBox.baseVal;
+			const scale = svg.getBoundingClientRect().width / vb.width;
+			for (const el of svg.querySelectorAll("text, circle")) {
+				if (el.closest("title, desc")) continue;
+				let b;
+				try { b = el.getBBox(); } catch (e) { continue; }
+				if (b.width === 0 && b.height === 0) continue;
+				const m = el.transform && el.transform.baseVal.consolidate();
+				if (m) continue; // rotated titles sit in the margin by construction
+				if (b.x < vb.x - 1 || b.y < vb.y - 1 || b.x + b.width > vb.x + vb.width + 1 || b.y + b.height > vb.y + vb.height + 1) {
+					out.push("outside its box: " + (el.textContent || el.getAttribute("class")) + " at " + Math.round(b.x) + "," + Math.round(b.y) + " in " + vb.width + "×" + vb.height);
+				}
+				if (el.tagName === "text") {
+					const px = parseFloat(getComputedStyle(el).fontSize) * scale;
+					if (px < 10.95) out.push("text at " + px.toFixed(1) + " px: " + el.textContent);
+				}
+			}
+		}
+		return out.slice(0, 8);
+	})()`)
+	for _, pr := range problems {
+		t.Errorf("%s at %d px: %s", where, width, pr)
+	}
+}
+
+// axeSource is axe-core, installed by .ci/run with npm from
+// e2e/axe/package.json (pinned).
+func axeSource(t *testing.T) string {
+	t.Helper()
+	_, file, _, _ := runtime.Caller(0)
+	b, err := os.ReadFile(filepath.Join(filepath.Dir(file), "axe", "node_modules", "axe-core", "axe.min.js"))
+	if err != nil {
+		t.Skipf("SKIPPING ACCESSIBILITY CHECKS: axe-core is not installed (%v). Run `npm ci --prefix e2e/axe`; .ci/run does.", err)
+	}
+	return string(b)
+}
+
+// accessible runs axe-core on the page and fails on every serious or
+// critical violation.
+func accessible(t *testing.T, p *person, axe, where string) {
+	t.Helper()
+	if !eval[bool](p, "axe present", `typeof window.axe === "object"`) {
+		eval[bool](p, "inject axe", axe+";true")
+	}
+	found := eval[[]string](p, "run axe", `axe.run(document, {resultTypes: ["violations"]}).then(r => r.violations
+		.filter(v => v.impact === "serious" || v.impact === "critical")
+		.map(v => v.impact + " " + v.id + ": " + v.help + " — " + v.nodes.slice(0, 3).map(n => n.target.join(" ")).join(" | ")))`)
+	for _, f := range found {
+		t.Errorf("%s: %s", where, f)
+	}
+}
+
+// TestEveryPageOnAPhone opens every expert page, in round 1 and round 2,
+// and the facilitator's pages, at 360, 390 and 414 px and at 1366 px:
+// none scrolls sideways, no picture cuts a label or marker or draws text
+// under 11 px, and axe-core finds no serious or critical violation.
+func TestEveryPageOnAPhone(t *testing.T) {
+	g := newDeviceRig(t)
+	axe := axeSource(t)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, g.site, fac)
+	carmen := br.person("Carmen (on a phone)")
+	link := g.links["Carmen Ruiz (invented)"]
+	qURL := func(i int) string { return link + "q/" + strconv.FormatInt(g.qs[i].ID, 10) }
+
+	expertPages := func(state string) map[string]string {
+		m := map[string]string{"home": link}
+		for i, q := range g.qs {
+			m[fmt.Sprintf("Q%d %s", i+1, q.Format)] = qURL(i)
+		}
+		return m
+	}
+	check := func(p *person, name, url string, widths []int64, axeToo bool) {
+		for _, w := range widths {
+			p.viewport(w, 844, w < 600)
+			if st := p.open(url); st != http.StatusOK {
+				t.Errorf("%s: status %d", name, st)
+				continue
+			}
+			fits(t, p, name, w)
+			if axeToo && (w == 390 || w == 1366) {
+				accessible(t, p, axe, fmt.Sprintf("%s at %d px", name, w))
+			}
+			if w == 390 {
+				shots.take(p, "device-"+strings.NewReplacer(" ", "-", "/", "-").Replace(name)+"-390")
+			}
+		}
+	}
+	widths := append(append([]int64{}, phoneWidths...), 1366)
+
+	// Round 1: Carmen answers each format on her phone.
+	for name, url := range expertPages("round 1") {
+		check(carmen, "expert round 1 "+name, url, widths, true)
+	}
+	// A first answer typed in percentages, read back as such.
+	carmen.viewport(390, 844, true)
+	carmen.open(qURL(0))
+	carmen.do("choose percentages", chromedp.Click(chromedp.CSS(`#f-unit-percent`)))
+	typeValues(carmen, "3", "7", "16")
+	carmen.waitFor("the read-back in percentages", `document.getElementById("preview").innerText.includes("Read as 0.03 (3%), 0.07 (7%) and 0.16 (16%).")`)
+	saveAnswer(t, carmen)
+	carmen.sees("saved in percentages", "5%: 3%; 50%: 7%; 95%: 16%", "Next: Question 2")
+	// The confidence as a fraction is refused with help; as a percentage it is taken.
+	carmen.open(qURL(1))
+	for _, f := range [][2]string{{"lowest", "0.08"}, {"highest", "0.35"}, {"best", "0.15"}, {"confidence", "0.8"}} {
+		carmen.fill(`form.answer-form`, f[0], f[1])
+	}
+	if st := carmen.load("save a fractional confidence", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("a confidence of 0.8: status %d, want 422", st)
+	}
+	carmen.sees("confidence refused", "did you mean 80%?")
+	carmen.fill(`form.answer-form`, "confidence", "80%")
+	saveAnswer(t, carmen)
+	// Every broken field is marked at once.
+	carmen.open(qURL(3))
+	typeValues(carmen, "9", "4", "40")
+	if st := carmen.load("save a judgement with two broken fields", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("two broken fields: status %d", st)
+	}
+	if n := carmen.count(`.field-invalid .field-error`); n != 2 {
+		t.Errorf("%d fields marked, want both broken ones (decreasing, and above 30 days)", n)
+	}
+
+	// Chips by tapping and by keyboard, fitted as the plain form fits them.
+	carmen.open(qURL(2))
+	carmen.waitFor("the chips board", `!document.querySelector(".chips-board").hidden`)
+	tap := func(bin int, times int) {
+		for k := 0; k < times; k++ {
+			carmen.do("tap bin", chromedp.Click(chromedp.CSS(fmt.Sprintf(".chips-bin:nth-child(%d) .chips-add", bin+1))))
+		}
+	}
+	tap(1, 3)
+	tap(2, 6)
+	carmen.do("focus bin 4", chromedp.Focus(chromedp.CSS(`.chips-bin:nth-child(4)`)))
+	for k := 0; k < 5; k++ {
+		carmen.do("place by keyboard", chromedp.KeyEvent(kb.ArrowUp))
+	}
+	carmen.do("move left by keyboard", chromedp.KeyEvent(kb.ArrowLeft))
+	carmen.do("place one more", chromedp.KeyEvent("+"))
+	carmen.do("take one away", chromedp.KeyEvent("-"))
+	carmen.do("and the first bin by a tap on its stack", chromedp.Click(chromedp.CSS(`.chips-bin:nth-child(1) .chips-stack`)))
+	if s := carmen.text(); !strings.Contains(s, "15 of 24 chips placed, 9 left") {
+		t.Errorf("the board's count is wrong:\n%s", clip(s, 1500))
+	}
+	announced := eval[string](carmen, "the announcement", `document.querySelector(".chips-status").textContent`)
+	if !strings.Contains(announced, "left to place") {
+		t.Errorf("the board announces %q", announced)
+	}
+	fits(t, carmen, "chips board", 390)
+	shots.take(carmen, "device-chips-board-390")
+	for k := 0; k < 9; k++ {
+		tap(4, 1)
+	}
+	saveAnswer(t, carmen)
+	revs, _ := g.site.DB.Revisions(context.Background(), g.ws.ID)
+	chipsRev := revs[len(revs)-1]
+	want := []int{1, 3, 6, 5, 9, 0, 0, 0}
+	if fmt.Sprint(chipsRev.Answer.Counts) != fmt.Sprint(want) {
+		t.Fatalf("the board saved %v, want %v", chipsRev.Answer.Counts, want)
+	}
+	plain, err := g.qs[2].Fit(elicit.Answer{Counts: want})
+	if err != nil {
+		t.Fatal(err)
+	}
+	carmen.sees("the board's fit", fmt.Sprintf("Beta(α = %s", fmtFour(plain.Dist.Alpha)))
+
+	// Facilitator pages in round 1.
+	facPages := map[string]string{
+		"workshops":    g.site.URL + "/",
+		"overview":     g.wsURL(),
+		"panel Q1":     g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10),
+		"panel chips":  g.wsURL() + "/q/" + strconv.FormatInt(g.qs[2].ID, 10),
+		"calibration":  g.wsURL() + "/calibration",
+		"log":          g.wsURL() + "/log",
+		"report":       g.wsURL() + "/report",
+		"new question": g.wsURL() + "/questions/new",
+		"correct Q2":   g.wsURL() + "/q/" + strconv.FormatInt(g.qs[1].ID, 10) + "/edit",
+		"entry":        g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10) + "/enter/" + strconv.FormatInt(g.experts[2].ID, 10),
+		"sheet":        g.wsURL() + "/answers/import",
+		"expert view":  g.wsURL() + "/experts/" + strconv.FormatInt(g.experts[0].ID, 10),
+	}
+	for name, url := range facPages {
+		check(fac, "facilitator "+name, url, widths, true)
+	}
+
+	// Round 2: the panel on the phone.
+	fac.viewport(1366, 900, false)
+	fac.open(g.wsURL())
+	fac.fill(`#rounds form`, "reason", "Round 1 discussed (invented).")
+	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`)))
+	check(carmen, "expert round 1 closed, Q1", qURL(0), []int64{390}, true)
+	check(fac, "room view, round 1 closed", g.wsURL()+"/q/"+strconv.FormatInt(g.qs[0].ID, 10)+"/room", []int64{390, 1366}, true)
+	fac.viewport(1366, 900, false)
+	fac.open(g.wsURL())
+	fac.fill(`#rounds form`, "reason", "A second round (invented).")
+	fac.load("open round 2", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`)))
+	for name, url := range expertPages("round 2") {
+		check(carmen, "expert round 2 "+name, url, widths, true)
+	}
+	carmen.viewport(390, 844, true)
+	carmen.open(qURL(0))
+	carmen.sees("round 2 feedback on a phone", "What the other experts said", "Their reasons", "From the district's own burst log (invented).")
+	shots.take(carmen, "device-expert-round2-Q1-390")
+	check(fac, "facilitator panel, round 2", facPages["panel Q1"], []int64{390, 1366}, true)
+}
+
+// fmtFour writes x as the pages do, four significant figures.
+func fmtFour(x float64) string { return chart.FormatValue(x) }

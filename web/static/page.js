@@ -1,0 +1,56 @@
+// Small things every page does. Progressive enhancement: without this
+// script the pages work as they are.
+//
+// 1. Text areas with a length limit show, as the person types, how many
+//    characters are left; the browser's maxlength already stops them at
+//    the limit, and the server checks it again.
+// 2. A table or picture that is wider than the screen scrolls inside its
+//    own box (the stylesheet does that); such a box becomes reachable by
+//    keyboard and is named for screen readers after its caption or the
+//    heading above it, so the scrolling is not for mouse users only.
+(function () {
+  "use strict";
+  Array.prototype.forEach.call(document.querySelectorAll("textarea[maxlength]"), function (ta) {
+    var max = parseInt(ta.getAttribute("maxlength"), 10);
+    if (!max) { return; }
+    var note = document.createElement("span");
+    note.className = "text-count";
+    note.id = ta.id + "-count";
+    note.setAttribute("aria-live", "polite");
+    ta.insertAdjacentElement("afterend", note);
+    function show() {
+      var left = max - ta.value.length;
+      note.textContent = left + " of " + max + " characters left";
+      note.classList.toggle("text-count-near", left < max / 10);
+    }
+    ta.addEventListener("input", show);
+    show();
+  });
+
+  function nameOf(box) {
+    var cap = box.querySelector("caption");
+    if (cap && cap.textContent.trim()) { return cap.textContent.trim(); }
+    var section = box.closest("section, .card, figure");
+    var h = section && section.querySelector("h1, h2, h3");
+    return h ? h.textContent.trim() : "Scrollable content";
+  }
+  function markScrollers() {
+    Array.prototype.forEach.call(document.querySelectorAll(".table, .chart-table, .table-scroll, .map-scroll, .chart"), function (box) {
+      var scrolls = box.scrollWidth > box.clientWidth + 1 && getComputedStyle(box).overflowX !== "visible";
+      if (scrolls && !box.hasAttribute("tabindex")) {
+        box.setAttribute("tabindex", "0");
+        box.setAttribute("data-scroll-focus", "");
+        if (!box.hasAttribute("aria-label") && box.tagName !== "TABLE") {
+          box.setAttribute("role", "region");
+          box.setAttribute("aria-label", nameOf(box) + " (scrolls sideways)");
+        }
+      } else if (!scrolls && box.hasAttribute("data-scroll-focus")) {
+        box.removeAttribute("tabindex");
+        box.removeAttribute("data-scroll-focus");
+      }
+    });
+  }
+  markScrollers();
+  window.addEventListener("resize", markScrollers);
+  document.addEventListener("parley:live", markScrollers);
+})();
