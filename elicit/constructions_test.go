@@ -257,9 +257,9 @@ func TestFitChipsUneven(t *testing.T) {
 	}
 	checkFinite(t, "uneven chips", f)
 	// No Beta does better from the exhaustive grid of starts.
-	q := &lsq{u: []float64{0.05, 0.1, 0.2, 0.3, 0.5}, p: cum, r: make([]float64, 5), rh: make([]float64, 5)}
+	q := newLSQ([]float64{0.05, 0.1, 0.2, 0.3, 0.5}, cum)
 	for _, th := range q.gridStarts(15) {
-		if _, g := q.fitFrom(th); g < f.SSE-1e-9 {
+		if _, g := q.localFit(th); g < f.SSE-1e-9 {
 			t.Errorf("grid start reaches %g < %g", g, f.SSE)
 		}
 	}

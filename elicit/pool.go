@@ -4,7 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
 
 	"gonum.org/v1/gonum/mathext"
 )
@@ -493,7 +492,7 @@ func (p Pool) BestBeta() (Representation, error) {
 	if len(u) < 2 {
 		return Representation{}, fmt.Errorf("%w: fewer than 2 of the pool's grid quantiles lie inside the bounds", ErrFitFailed)
 	}
-	d, _, _, err := p.representationFit(u, up)
+	d, _, err := p.representationFit(u, up)
 	if err != nil {
 		return Representation{}, err
 	}
@@ -512,35 +511,10 @@ func (p Pool) BestBeta() (Representation, error) {
 	return r, nil
 }
 
-// Sizes and tolerances of the search for the representing Beta.
-const (
-	// searchStride: the basins are compared on every fifth grid point
-	// (p = 0.05, 0.10, …, 0.95), a fifth of the cost; only the final fit
-	// uses the whole grid.
-	searchStride = 5
-	// rankStride: the means of the grid of starts are taken at, and
-	// ranked on, every twentieth grid point.
-	rankStride = 20
-	// scanStride: the local fits from the grid of starts run on every
-	// tenth grid point.
-	scanStride = 10
-	// scanRel is the relative improvement at which the local fits from
-	// the grid of starts stop: enough to tell the basins apart.
-	scanRel = 1e-3
-	// scanRefine is how many distinct basins from the grid of starts are
-	// refitted on every fifth grid point.
-	scanRefine = 2
-	// sameBasin is the distance in log α and log β within which two
-	// local fits count as one basin.
-	sameBasin = 0.05
-	// polishRatio: every basin whose objective on the subset is within
-	// this factor of the best is refitted on the whole grid, since the
-	// order of close basins can change with the points.
-	polishRatio = 1.2
-	// polishRel is the relative improvement of the objective below which
-	// the final fit on the whole grid stops.
-	polishRel = 1e-10
-)
+// searchStride: the representing Beta is first fitted, and proved
+// global, on every fifth grid point (p = 0.05, 0.10, …, 0.95), a fifth
+// of the cost; the fit on the whole grid starts from there.
+const searchStride = 5
 
 // subsample is the problem on every stride-th point (the stride-th, the
 // 2·stride-th, …), or on all of them when that would leave fewer than 4.
@@ -552,92 +526,42 @@ func subsample(u, up []float64, stride int) *lsq {
 		}
 		u, up = cu, cp
 	}
-	return &lsq{u: u, p: up, r: make([]float64, len(u)), rh: make([]float64, len(u))}
-}
-
-// basin is a local minimum θ of an objective, with its value.
-type basin struct {
-	th [2]float64
-	f  float64
-}
-
-// distinctBasins sorts bs by objective and keeps the best of each group
-// within sameBasin of one another.
-func distinctBasins(bs []basin) []basin {
-	sort.SliceStable(bs, func(a, b int) bool { return bs[a].f < bs[b].f })
-	var out []basin
-	for _, b := range bs {
-		seen := false
-		for _, o := range out {
-			if math.Abs(b.th[0]-o.th[0]) <= sameBasin && math.Abs(b.th[1]-o.th[1]) <= sameBasin {
-				seen = true
-				break
-			}
-		}
-		if !seen && !math.IsNaN(b.f) {
-			out = append(out, b)
-		}
-	}
-	return out
+	return newLSQ(u, up)
 }
 
 // representationFit minimises Σ (F(uₖ; α, β) − pₖ)² over the pool's grid
-// quantiles uₖ (all inside (0, 1)) at probabilities pₖ. The basins are
-// found on subsets of the grid, where each local fit costs a fifth or a
-// tenth as much: local fits from the moment-matched Beta (the pool's mean
-// m and variance v, α+β = m(1−m)/v − 1, feasible since a pool on [0, 1]
-// has v < m(1−m)) and from the quantile-based start of FitQuantiles; and
-// only if neither misses the subset's probabilities by at most closeFit,
-// from the cumulative fitter's grid of starts, whose best distinct basins
-// are refitted on the larger subset. Every basin within polishRatio of
-// the best is then refitted on the whole grid. It reports whether the
-// grid of starts was searched.
-func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, searched bool, err error) {
-	full := &lsq{u: u, p: up, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+// quantiles uₖ (all inside (0, 1)) at probabilities pₖ, globally on the
+// search box (fitGlobal). The global search runs first on a subset of
+// the grid, from the moment-matched Beta (the pool's mean m and
+// variance v, α+β = m(1−m)/v − 1, feasible since a pool on [0, 1] has
+// v < m(1−m)) and the quantile-based start of FitQuantiles; the fit on
+// the whole grid starts from its answer and is proved global in turn
+// (with the branch and bound behind the proof when it is needed).
+func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, err error) {
 	coarse := subsample(u, up, searchStride)
 	starts := [][2]float64{coarse.momentStart()}
 	m := (p.Mean() - p.Lower) / p.width()
 	if v := p.Variance() / (p.width() * p.width()); v > 0 && v < m*(1-m) {
 		starts = append(starts, clampBox(logShape(m, m*(1-m)/v-1)))
 	}
-	var found []basin
-	for _, th := range starts {
-		x, f := coarse.localFit(th)
-		found = append(found, basin{x, f})
+	first := coarse.fitGlobal(starts)
+	full := newLSQ(u, up)
+	if len(full.u) == len(coarse.u) {
+		full = coarse
 	}
-	found = distinctBasins(found)
-	if len(found) == 0 || !coarse.acceptable(found[0].th, closeFit) {
-		searched = true
-		scan := subsample(u, up, scanStride)
-		var scanned []basin
-		for _, th := range subsample(u, up, rankStride).gridStarts(gridRestarts) {
-			x, f := scan.localFitTol(th, 0, scanRel)
-			scanned = append(scanned, basin{x, f})
-		}
-		scanned = distinctBasins(scanned)
-		for _, b := range scanned[:min(scanRefine, len(scanned))] {
-			x, f := coarse.localFit(b.th)
-			found = append(found, basin{x, f})
-		}
-		found = distinctBasins(found)
-	}
-	if len(found) == 0 {
-		return Beta{}, 0, searched, fmt.Errorf("%w: no local fit gave a number", ErrFitFailed)
-	}
-	best, bestF := found[0].th, found[0].f
-	if coarse != full {
-		bestF = math.Inf(1)
-		for _, b := range found {
-			if b.f > polishRatio*found[0].f {
-				break
-			}
-			if x, f := full.localFitTol(b.th, 0, polishRel); f < bestF {
-				best, bestF = x, f
-			}
+	res := full.fitGlobal([][2]float64{first.th})
+	th := res.th
+	sse = full.sse(th)
+	for _, t := range th {
+		if t <= logParamMin+boundTol || t >= logParamMax-boundTol {
+			return Beta{}, 0, fmt.Errorf("%w: the closest single Beta has alpha %.3g and beta %.3g, at the edge of the range Parley fits (%g to %g)",
+				ErrFitFailed, math.Exp(th[0]), math.Exp(th[1]), MinShape, MaxShape)
 		}
 	}
-	d, err = fittedBeta(best, bestF)
-	return d, bestF, searched, err
+	if math.IsNaN(sse) || math.IsInf(sse, 0) {
+		return Beta{}, 0, fmt.Errorf("%w: no local fit gave a number", ErrFitFailed)
+	}
+	return Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}, sse, nil
 }
 
 // PanelFit is one expert's standing on a question as the pool sees it:

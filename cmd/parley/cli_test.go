@@ -242,7 +242,19 @@ func TestScriptingBadInput(t *testing.T) {
 		{"pool probs", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[0.5,1]}`, []string{"probs[1]", string(elicit.RuleProbOpen)}},
 		{"pool method", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"method":"mean"}`, []string{"method", string(elicit.RuleUnknown)}},
 		{"pool bounds", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"lower":1,"upper":1}`, []string{"lower", string(elicit.RuleBoundsOrder)}},
-		{"log pool underflow", []string{"pool"}, `{"experts":[{"alpha":5e-324,"beta":3},{"alpha":5e-324,"beta":3}],"method":"log"}`, []string{"alpha", string(elicit.RuleLogPoolValid)}},
+		{"log pool underflow", []string{"pool"}, `{"experts":[{"alpha":5e-324,"beta":3},{"alpha":5e-324,"beta":3}],"method":"log"}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},
+		// Issue 11: inputs that overflowed or underflowed are refused up
+		// front, naming the field and the rule.
+		{"update alpha overflows", []string{"update", "--alpha", "1e308", "--beta", "3", "--successes", "1", "--trials", "10"}, "", []string{"alpha", string(elicit.RuleShapeRange)}},
+		{"update beta overflows", []string{"update", "--alpha", "1", "--beta", "1e308", "--successes", "1", "--trials", "10"}, "", []string{"beta", string(elicit.RuleShapeRange)}},
+		{"update beta subnormal", []string{"update", "--alpha", "2", "--beta", "1e-320", "--successes", "0", "--trials", "0"}, "", []string{"beta", string(elicit.RuleShapeRange)}},
+		{"update posterior beyond envelope", []string{"update", "--alpha", "1", "--beta", "9500000", "--successes", "0", "--trials", "1000000"}, "", []string{"trials", string(elicit.RulePosteriorRange)}},
+		{"update level too close to 1", []string{"update", "--alpha", "1", "--beta", "1", "--successes", "0", "--trials", "10", "--level", "0.99999999999999"}, "", []string{"level", string(elicit.RuleProbRange)}},
+		{"pool huge and tiny shapes", []string{"pool"}, `{"experts":[{"alpha":1e300,"beta":1e300},{"alpha":1e-300,"beta":1e-300}]}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},
+		{"log pool alpha overflows", []string{"pool"}, `{"experts":[{"alpha":1e308,"beta":3},{"alpha":2,"beta":3}],"method":"log"}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},
+		{"pool probability subnormal", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[1e-320,0.5]}`, []string{"probs[0]", string(elicit.RuleProbRange)}},
+		{"fit subnormal values", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "4.9e-324,1e-323,1.5e-323"}, "", []string{"values[0]", string(elicit.RuleValueNearBound)}},
+		{"fit probability subnormal", []string{"fit", "--probs", "1e-320,0.5", "--values", "0.1,0.2"}, "", []string{"probs[0]", string(elicit.RuleProbRange)}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
