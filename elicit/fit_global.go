@@ -70,8 +70,11 @@ type fitResult struct {
 // the given starts (at least one).
 func (q *lsq) fitGlobal(starts [][2]float64) fitResult {
 	best := fitResult{s: math.Inf(1)}
+	atBest := false // q.r and q.jac hold best.th's
 	try := func(st [2]float64) {
-		if th, s := q.localFit(st); s < best.s {
+		th, s := q.localFit(st)
+		atBest = s < best.s
+		if atBest {
 			best.th, best.s = th, s
 		}
 	}
@@ -84,6 +87,9 @@ func (q *lsq) fitGlobal(starts [][2]float64) fitResult {
 	if q.trivially(best.s) {
 		best.certified = true
 		return best
+	}
+	if !atBest {
+		q.sseJac(best.th)
 	}
 	box, ok := q.certify(best.th, best.s)
 	if ok {
@@ -102,6 +108,9 @@ func (q *lsq) fitGlobal(starts [][2]float64) fitResult {
 		try(st)
 	}
 	if best.th != prev {
+		if !atBest {
+			q.sseJac(best.th)
+		}
 		if _, ok := q.certify(best.th, best.s); ok {
 			best.certified = true
 			return best
@@ -125,13 +134,13 @@ const linTol = 0.5
 // certify carries out the argument at the top of this file for θ* = th:
 // it returns the box R = [θ₁lo, θ₁hi] × [θ₂lo, θ₂hi] outside which no
 // point beats S*, and whether the residuals keep to their linear model
-// at R's corners. A zero box means R could not be formed.
+// at R's corners. A zero box means R could not be formed. q.r and q.jac
+// must hold the residuals and Jacobian at th.
 func (q *lsq) certify(th [2]float64, s float64) (box [4]float64, ok bool) {
 	n := len(q.u)
 	if n < 3 {
 		return box, false
 	}
-	q.sseJac(th)
 	rho := math.Sqrt(s) * (1 + 1e-12)
 	r := append([]float64(nil), q.r...)
 	jac := append([][2]float64(nil), q.jac...)
@@ -147,24 +156,40 @@ func (q *lsq) certify(th [2]float64, s float64) (box [4]float64, ok bool) {
 		return box, false
 	}
 	slope := -jac[k][0] / jac[k][1]
-	// Predicted distances east (dir +1) and west (−1) at which some
-	// point's bound leaves its window.
+	// Predicted distances east (dir +1) and west (−1) at which the
+	// bounds exclude the region beyond, from the linear model: at (θ₁* ±
+	// h, band edge) the residual of point i is rᵢ ± Dᵢh + ratioᵢ(t − F_k*),
+	// with Dᵢ its rate along the pivot's level curve.
 	hFor := func(dir float64) float64 {
-		h := math.Inf(1)
-		for i := range q.u {
-			if i == k {
-				continue
+		gapAt := func(h float64) float64 {
+			sum := 0.0
+			for i := range q.u {
+				if i == k {
+					continue
+				}
+				d := dir * (jac[i][0] + jac[i][1]*slope)
+				ratio := jac[i][1] / jac[k][1]
+				var gap float64
+				if (q.u[i] > q.u[k]) == (dir > 0) {
+					gap = r[i] + d*h + ratio*(-rho-r[k]) // at the lower edge
+				} else {
+					gap = -(r[i] + d*h + ratio*(rho-r[k])) // at the upper edge
+				}
+				if gap >= rho {
+					return math.Inf(1)
+				}
+				if gap > 0 {
+					sum += gap * gap
+				}
 			}
-			d := dir * (jac[i][0] + jac[i][1]*slope)
-			ratio := jac[i][1] / jac[k][1]
-			switch {
-			case d > 0:
-				h = math.Min(h, (rho-r[i]+ratio*(rho+r[k]))/d)
-			case d < 0:
-				h = math.Min(h, (rho+r[i]+ratio*(rho-r[k]))/-d)
+			return sum
+		}
+		for h := 0.01; h < 64; h *= 1.25 {
+			if gapAt(h) >= 1.3*rho*rho {
+				return h
 			}
 		}
-		return 1.3*math.Max(h, 0) + 1e-6
+		return math.Inf(1)
 	}
 	hE, hW := hFor(1), hFor(-1)
 	if math.IsInf(hE, 0) || math.IsInf(hW, 0) {
@@ -173,8 +198,8 @@ func (q *lsq) certify(th [2]float64, s float64) (box [4]float64, ok bool) {
 	var east, west probe
 	done := false
 	for try := 0; try < 4 && !done; try++ {
-		east = q.excluded(th, k, th[0]+hE, tLo, tHi, rho, +1, slope)
-		west = q.excluded(th, k, th[0]-hW, tLo, tHi, rho, -1, slope)
+		east = q.excluded(th, k, th[0]+hE, tLo, tHi, rho, +1, slope, jac[k][1])
+		west = q.excluded(th, k, th[0]-hW, tLo, tHi, rho, -1, slope, jac[k][1])
 		done = east.ok && west.ok
 		if !east.ok {
 			hE *= 2
@@ -214,15 +239,17 @@ type probe struct {
 // excluded checks the region {θ₁ on the dir side of a} ∩ band of the
 // pivot k: it finds the band's edges at θ₁ = a and tests whether some
 // point's bound leaves its window there, or the bounds together reach S*.
-func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope float64) probe {
+func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope, dF float64) probe {
+	// First guesses from the linear model at θ*, where F(u_k) = p_k + r_k.
 	guess := th[1] + slope*(a-th[0])
+	fk := q.p[k] + q.r[k]
 	pr := probe{a: a}
 	var okLo, okHi bool
 	// The band's edges need not be exact, only on the outer side of
 	// t_lo and t_hi (which widens the band a little).
-	slack := 1e-3 * rho
-	pr.bLo, okLo = q.levelTheta2(k, a, tLo, guess, -1, slack)
-	pr.bHi, okHi = q.levelTheta2(k, a, tHi, guess, +1, slack)
+	slack := 0.02 * rho
+	pr.bLo, okLo = q.levelTheta2(k, a, tLo, guess+(tLo-fk)/dF, -1, slack, dF)
+	pr.bHi, okHi = q.levelTheta2(k, a, tHi, guess+(tHi-fk)/dF, +1, slack, dF)
 	if !okLo || !okHi {
 		return pr
 	}
@@ -262,21 +289,21 @@ func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope float6
 
 // levelTheta2 finds θ₂ with F(u_k; e^θ₁, e^θ₂) on the far side of t: at
 // most t for side −1 and at least t for side +1, by no more than slack,
-// by Newton's method in θ₂ (F rises with θ₂) inside an expanding
-// bracket. ok is false when θ₂ would leave [logParamMin − 40,
-// logParamMax + 40].
-func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack float64) (float64, bool) {
+// by secant steps in θ₂ (F rises with θ₂; the first step uses slope, the
+// pivot's ∂F/∂θ₂ at θ*) inside an expanding bracket. ok is false when θ₂
+// would leave [logParamMin − 40, logParamMax + 40].
+func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (float64, bool) {
 	a := math.Exp(th1)
 	lo, hi := math.Inf(-1), math.Inf(1)
 	x := guess
+	prevX, prevG := math.NaN(), math.NaN()
 	const limit = 40
 	for it := 0; it < 100; it++ {
 		if x < logParamMin-limit || x > logParamMax+limit {
 			return x, false
 		}
-		b := math.Exp(x)
-		c := newIncBeta(a, b).withDerivs()
-		l, u, _, db := c.grad(q.u[k], q.y[k])
+		c := newIncBeta(a, math.Exp(x))
+		l, u := c.tails(q.u[k], q.y[k])
 		q.evals++
 		// Residual on the smaller tail.
 		var g float64
@@ -285,11 +312,10 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack float64) (float64, b
 		} else {
 			g = l - t
 		}
-		tol := slack
-		if side < 0 && g <= 0 && g >= -tol {
+		if side < 0 && g <= 0 && g >= -slack {
 			return x, true
 		}
-		if side > 0 && g >= 0 && g <= tol {
+		if side > 0 && g >= 0 && g <= slack {
 			return x, true
 		}
 		if g < 0 {
@@ -297,7 +323,12 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack float64) (float64, b
 		} else {
 			hi = x
 		}
-		next := x - (g-side*tol/2)/(b*db)
+		if d := (g - prevG) / (x - prevX); d > 0 {
+			slope = d // secant through the last two points
+		}
+		target := side * slack / 2
+		next := x - (g-target)/slope
+		prevX, prevG = x, g
 		if !(next > lo && next < hi) || math.IsNaN(next) {
 			switch {
 			case math.IsInf(lo, 0):

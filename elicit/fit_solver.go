@@ -15,6 +15,9 @@ type lsq struct {
 	y, q []float64 // 1 − uᵢ, 1 − pᵢ
 	r    []float64 // residuals at the last evaluation
 	jac  [][2]float64
+	// rKeep, jacKeep: localFit's copy of r and jac at its current point.
+	rKeep   []float64
+	jacKeep [][2]float64
 	// evals counts evaluations of I_x(α, β) (with or without
 	// derivatives), for the tests and benchmarks.
 	evals int
@@ -117,45 +120,80 @@ const (
 // Levenberg–Marquardt method (Levenberg 1944; Marquardt 1963, "An
 // algorithm for least-squares estimation of nonlinear parameters",
 // J. SIAM 11(2): 431–441; Nocedal & Wright 2006, "Numerical
-// Optimization", 2nd ed., §10.3): the step δ solves
-// (JᵀJ + λ·diag(JᵀJ)) δ = −Jᵀr in closed form (a 2×2 system), with the
-// analytic Jacobian of incBeta.grad; λ shrinks after a step that lowers
-// S and grows after one that does not. A coordinate at a bound of the
-// box whose gradient points out of the box is held there (a projected
-// step). It returns the best point and its objective, with q.r and
-// q.jac evaluated there.
+// Optimization", 2nd ed., §10.3) with the analytic Jacobian of
+// incBeta.grad. The model Hessian is JᵀJ + A, where A estimates the
+// residual curvature Σ rᵢ∇²rᵢ that Gauss–Newton leaves out, by the
+// structured secant update of Dennis, Gay & Welsch (1981, "An adaptive
+// nonlinear least-squares algorithm", ACM TOMS 7(3): 348–368): after a
+// step s, A s = (J₊ − J)ᵀ r₊, imposed by the symmetric (Powell) rank-two
+// update. With it the iteration converges superlinearly also when the
+// residuals are not small, where Gauss–Newton alone converges only
+// linearly. The step solves (JᵀJ + A + λ·diag(JᵀJ)) δ = −Jᵀr in closed
+// form (a 2×2 system; A is dropped when it would make the matrix
+// indefinite); λ shrinks after a step that lowers S and grows after one
+// that does not. A coordinate at a bound of the box whose gradient
+// points out of the box is held there (a projected step). It returns the
+// best point and its objective, with q.r and q.jac evaluated there.
 func (q *lsq) localFit(th0 [2]float64) (th [2]float64, s float64) {
 	th = clampBox(th0)
 	s = q.sseJac(th)
 	if math.IsNaN(s) || math.IsInf(s, 0) {
 		return th, s
 	}
+	n := len(q.u)
+	if cap(q.rKeep) < n {
+		q.rKeep, q.jacKeep = make([]float64, n), make([][2]float64, n)
+	}
+	rKeep, jacKeep := q.rKeep[:n], q.jacKeep[:n]
+	var a00, a01, a11 float64
 	lambda := 1e-3
 	for it := 0; it < lmMaxIter && s > 0; it++ {
 		h00, h01, h11, g0, g1 := q.normalEq()
+		copy(rKeep, q.r)
+		copy(jacKeep, q.jac)
 		free := [2]bool{true, true}
 		for k, g := range [2]float64{g0, g1} {
 			if (th[k] <= logParamMin && g > 0) || (th[k] >= logParamMax && g < 0) {
 				free[k] = false
 			}
 		}
-		improved := false
+		m00, m01, m11 := h00+a00, h01+a01, h11+a11
+		if !(m00 > 0 && m11 > 0 && m00*m11 > m01*m01) {
+			m00, m01, m11 = h00, h01, h11
+			a00, a01, a11 = 0, 0, 0
+		}
+		improved, fresh := false, false
 		for try := 0; try < 30; try++ {
-			d := lmStepSolve(h00, h01, h11, g0, g1, lambda, free)
+			d := lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda, free)
 			next := clampBox([2]float64{th[0] + d[0], th[1] + d[1]})
 			d = [2]float64{next[0] - th[0], next[1] - th[1]}
-			// The decrease the Gauss–Newton model predicts for the step;
-			// once it is at the rounding level of S, S is converged.
-			pred := -2*(g0*d[0]+g1*d[1]) - (h00*d[0]*d[0] + 2*h01*d[0]*d[1] + h11*d[1]*d[1])
+			// The decrease the model predicts for the step; once it is at
+			// the rounding level of S, S is converged.
+			pred := -2*(g0*d[0]+g1*d[1]) - (m00*d[0]*d[0] + 2*m01*d[0]*d[1] + m11*d[1]*d[1])
 			if next == th || pred <= lmRound*s {
 				break
 			}
 			sn := q.sseJac(next)
+			fresh = true
 			if sn < s {
-				moved := math.Max(math.Abs(next[0]-th[0]), math.Abs(next[1]-th[1]))
+				moved := math.Max(math.Abs(d[0]), math.Abs(d[1]))
+				// y# = (J₊ − J)ᵀ r₊, and the Powell symmetric update of A.
+				var y0, y1 float64
+				for i, r := range q.r {
+					y0 += (q.jac[i][0] - jacKeep[i][0]) * r
+					y1 += (q.jac[i][1] - jacKeep[i][1]) * r
+				}
+				v0 := y0 - (a00*d[0] + a01*d[1])
+				v1 := y1 - (a01*d[0] + a11*d[1])
+				if ss := d[0]*d[0] + d[1]*d[1]; ss > 0 {
+					vs := (v0*d[0] + v1*d[1]) / (ss * ss)
+					a00 += 2*v0*d[0]/ss - vs*d[0]*d[0]
+					a01 += (v0*d[1]+v1*d[0])/ss - vs*d[0]*d[1]
+					a11 += 2*v1*d[1]/ss - vs*d[1]*d[1]
+				}
 				th, s = next, sn
 				lambda = math.Max(lambda/5, 1e-12)
-				improved = true
+				improved, fresh = true, false
 				if moved <= lmStep {
 					return th, s
 				}
@@ -167,25 +205,30 @@ func (q *lsq) localFit(th0 [2]float64) (th [2]float64, s float64) {
 			}
 		}
 		if !improved {
-			// q.r and q.jac may hold a rejected trial: evaluate at th again.
-			return th, q.sseJac(th)
+			if fresh {
+				// q.r and q.jac hold a rejected trial: put back th's.
+				copy(q.r, rKeep)
+				copy(q.jac, jacKeep)
+			}
+			return th, s
 		}
 	}
 	return th, s
 }
 
-// lmStepSolve solves (H + λ diag H + εI) δ = −g for the free coordinates.
-func lmStepSolve(h00, h01, h11, g0, g1, lambda float64, free [2]bool) [2]float64 {
+// lmStepSolve solves (M + λ diag H + εI) δ = −g for the free
+// coordinates, with M the model Hessian and H = JᵀJ.
+func lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda float64, free [2]bool) [2]float64 {
 	eps := 1e-300 + 1e-14*(h00+h11)
-	a00 := h00*(1+lambda) + eps
-	a11 := h11*(1+lambda) + eps
+	a00 := m00 + lambda*h00 + eps
+	a11 := m11 + lambda*h11 + eps
 	switch {
 	case free[0] && free[1]:
-		det := a00*a11 - h01*h01
+		det := a00*a11 - m01*m01
 		if !(det > 0) {
 			return [2]float64{-g0 / a00, -g1 / a11}
 		}
-		return [2]float64{(-g0*a11 + g1*h01) / det, (-g1*a00 + g0*h01) / det}
+		return [2]float64{(-g0*a11 + g1*m01) / det, (-g1*a00 + g0*m01) / det}
 	case free[0]:
 		return [2]float64{-g0 / a00, 0}
 	case free[1]:

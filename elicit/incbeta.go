@@ -69,7 +69,7 @@ const cfMaxTerms = 200000
 // converges more slowly, with at most cfOtherTerms terms.
 const (
 	otherTail    = 1e-3
-	cfOtherTerms = 5000
+	cfOtherTerms = 400
 )
 
 func newIncBeta(a, b float64) incBeta {

@@ -319,7 +319,7 @@ func bisectQuantile(p Pool, prob float64) float64 {
 		if mid <= lo || mid >= hi {
 			break
 		}
-		if p.unitCDF(mid) < prob {
+		if l, _ := p.withIncBeta().unitTails(mid); l < prob {
 			lo = mid
 		} else {
 			hi = mid

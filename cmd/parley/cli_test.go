@@ -341,8 +341,8 @@ func TestPoolWithoutSingleBeta(t *testing.T) {
 	}
 	decodeJSON(t, out, &got)
 	switch {
-	case len(got.Warnings) != 1:
-		t.Errorf("beta %v, warnings %q; want one warning", got.Beta, got.Warnings)
+	case len(got.Warnings) == 0:
+		t.Errorf("beta %v, warnings %q; want a warning", got.Beta, got.Warnings)
 	case got.Beta == nil && !strings.Contains(got.Warnings[0], "no single Beta"),
 		got.Beta != nil && !strings.Contains(got.Warnings[0], "far from the pool"):
 		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
@@ -369,7 +369,7 @@ func TestPoolFarFromOneBetaWarns(t *testing.T) {
 	}
 	decodeJSON(t, out, &got)
 	if got.Beta == nil || got.BetaFit.MaxCDFError <= elicit.PoorFitThreshold ||
-		len(got.Warnings) != 1 || !strings.Contains(got.Warnings[0], "far from the pool") {
+		len(got.Warnings) == 0 || !strings.Contains(got.Warnings[0], "far from the pool") {
 		t.Errorf("bimodal pool: beta %v, max CDF gap %v, warnings %q", got.Beta, got.BetaFit.MaxCDFError, got.Warnings)
 	}
 
