@@ -55,9 +55,11 @@ type Fit struct {
 	Warnings     []Warning  `json:"warnings"`
 }
 
-// ErrFitFailed is returned (wrapped) when the optimiser cannot produce a
-// finite fit. It is never replaced by a guess.
-var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
+// ErrFitFailed is returned (wrapped) when no Beta within the accuracy
+// envelope can be fitted where the input rules cannot say so beforehand,
+// as for a pool that no single Beta represents. It is never replaced by
+// a guess. (A judgement no Beta fits is refused with RuleFitRange.)
+var ErrFitFailed = errors.New("elicit: no Beta within the accuracy envelope fits")
 
 // FitQuantiles fits a Beta on [j.Lower, j.Upper] to the judgement by least
 // squares on the probability scale,

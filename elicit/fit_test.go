@@ -253,7 +253,7 @@ func TestFitFastPath(t *testing.T) {
 // TestFitTwoPairsSearch draws erratic two-pair judgements (values crowded
 // at either end of [0, 1], probabilities anywhere): whenever an exhaustive
 // search finds an exact match, FitQuantiles must find one too, and
-// otherwise it must refuse with ErrFitFailed.
+// otherwise it must refuse with RuleFitRange on values.
 func TestFitTwoPairsSearch(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 3))
 	total := 60
@@ -287,7 +287,7 @@ func TestFitTwoPairsSearch(t *testing.T) {
 				t.Errorf("%v %v: max prob error %g", ps, us, f.MaxProbError)
 			}
 			checkFitReport(t, "two pairs", j, f)
-		case !errors.Is(err, ErrFitFailed):
+		case !isFitRange(err):
 			t.Errorf("%v %v: %v", ps, us, err)
 		case full < 1e-18:
 			t.Errorf("%v %v: refused, but an exhaustive search matches exactly (objective %g): %v", ps, us, full, err)
@@ -349,4 +349,11 @@ func exhaustiveFit(j Judgement) float64 {
 		}
 	}
 	return best
+}
+
+// isFitRange reports whether err refuses a judgement that no Beta within
+// the envelope fits (RuleFitRange).
+func isFitRange(err error) bool {
+	var ie *InputError
+	return errors.As(err, &ie) && ie.Rule == RuleFitRange
 }

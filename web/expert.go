@@ -417,6 +417,15 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 		case errors.As(err, &ie) && ie.Field == "counts":
 			// A rule about all the bins together belongs to the whole form.
 			f.set("", "Your chips "+string(ie.Rule)+detailSuffix(ie.Detail)+".")
+		case errors.As(err, &ie) && ie.Rule == elicit.RuleFitRange && q.Format == elicit.FormatChips:
+			f.set("", "No distribution Parley can draw matches where your chips are. Please spread them over more bins.")
+		case errors.As(err, &ie) && ie.Rule == elicit.RuleFitRange:
+			// The rule's own words speak of alpha and beta; an expert
+			// reads what to change.
+			f.set("", "These values lie too close together, or too close to a bound, for any distribution Parley can draw to match them. Please spread them out or move them away from the bounds.")
+		case errors.Is(err, elicit.ErrFitFailed):
+			// Never the fitter's own words on an expert's screen.
+			f.set("", "No distribution could be drawn through these answers. Please check them: each value above the one before, none at a bound, and not all crowded together.")
 		default:
 			f.Fail(err, nil)
 		}

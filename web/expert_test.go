@@ -312,6 +312,10 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", string(elicit.RuleRequired), "0.05"},
 		{"confidence over 100%", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"120"}},
 			"f-confidence", "between 0% and 100%", "120"},
+		// Issue 11: degenerate values are refused beside the field, before
+		// any fit.
+		{"subnormal values", g.q, quantiles("4.9e-324", "1e-323", "1.5e-323"), "f-values-0", string(elicit.RuleValueNearBound), "4.9e-324"},
+		{"values too close", g.q, quantiles("0.05", "0.0500000001", "0.4"), "f-values-1", string(elicit.RuleValuesTooClose), "0.0500000001"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -334,6 +338,31 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 				t.Errorf("%d revisions saved from bad input", n)
 			}
 		})
+	}
+}
+
+// TestExpertNeverSeesTheFittersWords: values that pass every rule but
+// that no Beta within the accuracy envelope matches (rare values a few
+// percent apart) are refused with 422 and a sentence for the expert, not
+// the fitter's internal text (issue 11).
+func TestExpertNeverSeesTheFittersWords(t *testing.T) {
+	g := newExpertRig(t)
+	for _, action := range []string{"/preview", "/preview?fragment=1", "/save"} {
+		resp, body := g.post(g.qpath(0, g.q)+action, quantiles("1e-9", "1.02e-9", "1.04e-9"))
+		if resp.StatusCode != http.StatusUnprocessableEntity {
+			t.Fatalf("%s: status %d, want 422", action, resp.StatusCode)
+		}
+		if !strings.Contains(body, "too close together, or too close to a bound") {
+			t.Errorf("%s: no sentence for the expert:\n%s", action, body)
+		}
+		for _, internal := range []string{"elicit:", "least-squares", "did not converge", "alpha", "envelope"} {
+			if strings.Contains(body, internal) {
+				t.Errorf("%s: the page shows %q", action, internal)
+			}
+		}
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved", n)
 	}
 }
 

@@ -383,3 +383,95 @@ func TestPoolFarFromOneBetaWarns(t *testing.T) {
 		t.Errorf("close experts: warnings %q, want none", got.Warnings)
 	}
 }
+
+// rReference reads one reproducer's answer from
+// testdata/r/envelope_reference.csv (written by
+// testdata/r/envelope_reference.R with R 4.2's qbeta and uniroot).
+func rReference(t *testing.T, name string) float64 {
+	t.Helper()
+	data, err := os.ReadFile("../../testdata/r/envelope_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, line := range strings.Split(string(data), "\n") {
+		c := strings.Split(line, ",")
+		if len(c) == 7 && c[0] == "repro" && c[1] == name {
+			v, err := strconv.ParseFloat(c[5], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			return v
+		}
+	}
+	t.Fatalf("no reference %q", name)
+	return 0
+}
+
+// TestUpdateExtremeTails: issue 11's update reproducers give R's interval
+// ends (to 1e-9 relative, in 1 − x near 1), and a J-shaped posterior says
+// why its highest-density interval starts at the bound.
+func TestUpdateExtremeTails(t *testing.T) {
+	var got struct {
+		Interval [2]float64 `json:"interval"`
+		HDI      [2]float64 `json:"hdi"`
+		Warnings []string   `json:"warnings"`
+	}
+	code, out, errOut := runCLI(t, "", "update", "--alpha", "1", "--beta", "1", "--successes", "0", "--trials", "1000000", "--level", "0.999999", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	decodeJSON(t, out, &got)
+	if want := rReference(t, "update_upper"); math.Abs(got.Interval[1]-want) > 1e-9*want {
+		t.Errorf("upper end %.17g, R %.17g", got.Interval[1], want)
+	}
+	if got.HDI[0] != 0 || len(got.Warnings) == 0 || !strings.Contains(strings.Join(got.Warnings, " "), "J-shaped") {
+		t.Errorf("J-shaped posterior: hdi %v, warnings %q", got.HDI, got.Warnings)
+	}
+	code, out, errOut = runCLI(t, "", "update", "--alpha", "1", "--beta", "1", "--successes", "30000", "--trials", "30000", "--level", "0.999999", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	got.Warnings = nil
+	decodeJSON(t, out, &got)
+	if want := rReference(t, "update_lower"); math.Abs((1-got.Interval[0])-(1-want)) > 1e-9*(1-want) {
+		t.Errorf("lower end %.17g, R %.17g", got.Interval[0], want)
+	}
+	if got.HDI[1] != 1 || !strings.Contains(strings.Join(got.Warnings, " "), "J-shaped") {
+		t.Errorf("J-shaped posterior: hdi %v, warnings %q", got.HDI, got.Warnings)
+	}
+}
+
+// TestPoolFlatGapAndTail: issue 11's pool reproducers through the
+// command: the tail quantile is R's root of the mixture CDF, and the
+// median of a symmetric pool of two distant experts is 0.5, reported as
+// not unique, however it is asked for.
+func TestPoolFlatGapAndTail(t *testing.T) {
+	var got struct {
+		Quantiles []float64             `json:"quantiles"`
+		Detail    []elicit.PoolQuantile `json:"quantile_detail"`
+		Warnings  []string              `json:"warnings"`
+	}
+	code, out, errOut := runCLI(t, `{"experts":[{"alpha":100000,"beta":1},{"alpha":50000,"beta":2}],"probs":[1e-8,0.5]}`, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	decodeJSON(t, out, &got)
+	if want := rReference(t, "pool_tail"); math.Abs((1-got.Quantiles[0])-(1-want)) > 1e-9*(1-want) {
+		t.Errorf("1e-8 quantile %.17g, R %.17g", got.Quantiles[0], want)
+	}
+	for _, probs := range []string{"[0.05,0.5,0.95]", "[0.4999,0.5,0.5001]"} {
+		code, out, errOut := runCLI(t, `{"experts":[{"alpha":200,"beta":800},{"alpha":800,"beta":200}],"probs":`+probs+`}`, "pool", "--format", "json")
+		if code != 0 {
+			t.Fatalf("exit %d: %s", code, errOut)
+		}
+		got.Warnings = nil
+		decodeJSON(t, out, &got)
+		if got.Quantiles[1] != 0.5 || got.Detail[1].Unique || !strings.Contains(strings.Join(got.Warnings, " "), "not unique") {
+			t.Errorf("probs %s: quantiles %v, detail %+v, warnings %q", probs, got.Quantiles, got.Detail[1], got.Warnings)
+		}
+	}
+	_, text, _ := runCLI(t, `{"experts":[{"alpha":200,"beta":800},{"alpha":800,"beta":200}]}`, "pool")
+	if !strings.Contains(text, "not unique") {
+		t.Errorf("text output does not say the median is not unique:\n%s", text)
+	}
+}
