@@ -128,8 +128,12 @@ func (q *lsq) trivially(s float64) bool {
 func (q *lsq) tau(s float64) float64 { return certTol*s + certFloor }
 
 // linTol is the share of ρ by which the residuals may leave their linear
-// model at a checked point of R.
-const linTol = 0.5
+// model at a checked point of R, and linAbs the most in probability
+// (for poor fits, where ρ is large).
+const (
+	linTol = 0.5
+	linAbs = 0.02
+)
 
 // certify carries out the argument at the top of this file for θ* = th:
 // it returns the box R = [θ₁lo, θ₁hi] × [θ₂lo, θ₂hi] outside which no
@@ -218,7 +222,7 @@ func (q *lsq) certify(th [2]float64, s float64) (box [4]float64, ok bool) {
 			d := [2]float64{pr.a - th[0], b - th[1]}
 			for i := range q.u {
 				lin := r[i] + jac[i][0]*d[0] + jac[i][1]*d[1]
-				if math.Abs(pr.resid[e][i]-lin) > linTol*rho {
+				if dev := math.Abs(pr.resid[e][i] - lin); dev > linTol*rho || dev > linAbs {
 					return box, false
 				}
 			}
@@ -349,7 +353,8 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (flo
 
 // modelBox is the largest square [θ* ± h] (h from a fixed list, 0 when
 // none) at whose corners and edge midpoints every residual keeps within
-// linTol·ρ of its linear model at θ* and S is at least S* − τ.
+// linTol·ρ (and within linAbs) of its linear model at θ* and S is at
+// least S* − τ.
 func (q *lsq) modelBox(th [2]float64, s float64) float64 {
 	q.sseJac(th)
 	r := append([]float64(nil), q.r...)
@@ -365,7 +370,7 @@ func (q *lsq) modelBox(th [2]float64, s float64) float64 {
 			}
 			for i := range q.u {
 				lin := r[i] + jac[i][0]*d[0] + jac[i][1]*d[1]
-				if math.Abs(q.r[i]-lin) > linTol*rho {
+				if dev := math.Abs(q.r[i] - lin); dev > linTol*rho || dev > linAbs {
 					good = false
 					break
 				}
@@ -390,7 +395,7 @@ const (
 	bnbMinWidth = 1e-9
 	// bnbMaxCells bounds the work; past it the fit is returned without
 	// proof (certified false), which the tests count.
-	bnbMaxCells = 4000
+	bnbMaxCells = 400
 )
 
 type bnbCell struct {
@@ -451,9 +456,23 @@ func (q *lsq) branchAndBound(best fitResult) fitResult {
 	// The neighbourhood of the best point where the residuals keep to
 	// their linear model: cells inside it are not searched.
 	var near [4]float64
-	setNear := func() {
+	// setNear finds the neighbourhood and fits from its four corners: a
+	// corner that leads to a lower point replaces the best, and the search
+	// for the neighbourhood starts again there.
+	var setNear func()
+	setNear = func() {
 		h := q.modelBox(best.th, best.s)
 		near = [4]float64{best.th[0] - h, best.th[0] + h, best.th[1] - h, best.th[1] + h}
+		if h == 0 {
+			return
+		}
+		for _, c := range [4][2]float64{{near[0], near[2]}, {near[0], near[3]}, {near[1], near[2]}, {near[1], near[3]}} {
+			if th, s := q.localFit(c); s < best.s-q.tau(best.s) {
+				best.th, best.s = th, s
+				setNear()
+				return
+			}
+		}
 	}
 	setNear()
 	inNear := func(c bnbCell) bool {

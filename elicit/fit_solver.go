@@ -162,15 +162,39 @@ func (q *lsq) localFit(th0 [2]float64) (th [2]float64, s float64) {
 			m00, m01, m11 = h00, h01, h11
 			a00, a01, a11 = 0, 0, 0
 		}
+		// Converged when the undamped model step predicts a decrease at
+		// the rounding level of S.
+		if d, ok := lmStepSolve(m00, m01, m11, h00, h11, g0, g1, 0, free); ok {
+			if lmPredict(m00, m01, m11, g0, g1, d) <= lmRound*s {
+				return th, s
+			}
+		}
 		improved, fresh := false, false
-		for try := 0; try < 30; try++ {
-			d := lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda, free)
+		for try := 0; try < 40; try++ {
+			d, ok := lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda, free)
+			if !ok {
+				lambda = math.Max(lambda*8, 1e-6)
+				continue
+			}
+			// A step that would leave the box is shortened to its edge
+			// (a projection would turn it).
+			if t := boxFraction(th, d); t < 1 {
+				d = [2]float64{t * d[0], t * d[1]}
+			}
 			next := clampBox([2]float64{th[0] + d[0], th[1] + d[1]})
 			d = [2]float64{next[0] - th[0], next[1] - th[1]}
-			// The decrease the model predicts for the step; once it is at
-			// the rounding level of S, S is converged.
-			pred := -2*(g0*d[0]+g1*d[1]) - (m00*d[0]*d[0] + 2*m01*d[0]*d[1] + m11*d[1]*d[1])
-			if next == th || pred <= lmRound*s {
+			if next == th || lmPredict(m00, m01, m11, g0, g1, d) <= 0 {
+				// At an edge with nowhere to go along the step: hold the
+				// coordinates at their bounds and solve again.
+				held := false
+				for k := range th {
+					if free[k] && (th[k] <= logParamMin || th[k] >= logParamMax) {
+						free[k], held = false, true
+					}
+				}
+				if held {
+					continue
+				}
 				break
 			}
 			sn := q.sseJac(next)
@@ -216,25 +240,46 @@ func (q *lsq) localFit(th0 [2]float64) (th [2]float64, s float64) {
 	return th, s
 }
 
+// lmPredict is the decrease of S the model predicts for the step d:
+// −2gᵀd − dᵀMd (S = Σr², so its gradient is 2g and its model Hessian 2M).
+func lmPredict(m00, m01, m11, g0, g1 float64, d [2]float64) float64 {
+	return -2*(g0*d[0]+g1*d[1]) - (m00*d[0]*d[0] + 2*m01*d[0]*d[1] + m11*d[1]*d[1])
+}
+
 // lmStepSolve solves (M + λ diag H + εI) δ = −g for the free
-// coordinates, with M the model Hessian and H = JᵀJ.
-func lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda float64, free [2]bool) [2]float64 {
+// coordinates, with M the model Hessian and H = JᵀJ; ok is false when
+// the system is singular to working precision (then λ must grow).
+func lmStepSolve(m00, m01, m11, h00, h11, g0, g1, lambda float64, free [2]bool) (d [2]float64, ok bool) {
 	eps := 1e-300 + 1e-14*(h00+h11)
 	a00 := m00 + lambda*h00 + eps
 	a11 := m11 + lambda*h11 + eps
 	switch {
 	case free[0] && free[1]:
 		det := a00*a11 - m01*m01
-		if !(det > 0) {
-			return [2]float64{-g0 / a00, -g1 / a11}
+		if !(det > 1e-12*a00*a11) {
+			return d, false
 		}
-		return [2]float64{(-g0*a11 + g1*m01) / det, (-g1*a00 + g0*m01) / det}
+		return [2]float64{(-g0*a11 + g1*m01) / det, (-g1*a00 + g0*m01) / det}, true
 	case free[0]:
-		return [2]float64{-g0 / a00, 0}
+		return [2]float64{-g0 / a00, 0}, a00 > 0
 	case free[1]:
-		return [2]float64{0, -g1 / a11}
+		return [2]float64{0, -g1 / a11}, a11 > 0
 	}
-	return [2]float64{}
+	return d, true
+}
+
+// boxFraction is the largest t ≤ 1 with th + t·d inside the box.
+func boxFraction(th, d [2]float64) float64 {
+	t := 1.0
+	for k := range th {
+		switch {
+		case th[k]+d[k] > logParamMax && d[k] > 0:
+			t = math.Min(t, (logParamMax-th[k])/d[k])
+		case th[k]+d[k] < logParamMin && d[k] < 0:
+			t = math.Min(t, (logParamMin-th[k])/d[k])
+		}
+	}
+	return math.Max(t, 0)
 }
 
 func clampBox(th [2]float64) [2]float64 {

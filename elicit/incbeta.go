@@ -63,6 +63,11 @@ const stirlingMin = 10
 // the number actually needed across the accuracy envelope.
 const cfMaxTerms = 200000
 
+// cfGradTerms bounds betaCFGrad: beyond it the derivatives of a
+// fraction that converges this slowly (shapes near MaxShape at points in
+// the bulk) steer a fit no better.
+const cfGradTerms = 20000
+
 // When the tail the continued fraction gives in its fast orientation is
 // above 1 − otherTail, the other tail is wanted with its own relative
 // precision: the fraction is also tried the other way round, where it
@@ -298,15 +303,16 @@ func (c *incBeta) grad(x, y float64) (lower, upper, da, db float64) {
 
 // betaCFGrad is betaCF's fraction w with its derivatives in a and b, by
 // forward recurrence of the convergents (see grad), rescaled to stay in
-// range, until w and both derivatives change by less than 2⁻⁵⁰
-// relative.
+// range, until w changes by less than 2⁻⁵⁰ relative and the derivatives
+// by less than 1e-12 (the Jacobian of a fit needs no more), or after
+// cfGradTerms terms.
 func betaCFGrad(a, b, x, y float64) (w, wa, wb float64) {
 	// Convergents of w = 1/(1 + d₁/(1 + d₂/(1 + …))): A₁ = B₁ = 1,
 	// A₀ = 0, B₀ = 1; Aₖ₊₁ = Aₖ + dₖAₖ₋₁.
 	a0, a1, b0, b1 := 0.0, 1.0, 1.0, 1.0
 	var a0a, a1a, b0a, b1a, a0b, a1b, b0b, b1b float64
 	prevW, prevA, prevB := 1.0, 0.0, 0.0
-	for k := 1; k <= 2*cfMaxTerms; k++ {
+	for k := 1; k <= 2*cfGradTerms; k++ {
 		var d, dA, dB float64
 		if k%2 == 1 {
 			m := float64(k-1) / 2
@@ -345,10 +351,10 @@ func betaCFGrad(a, b, x, y float64) (w, wa, wb float64) {
 		w = a1 / b1
 		wa = (a1a*b1 - a1*b1a) / (b1 * b1)
 		wb = (a1b*b1 - a1*b1b) / (b1 * b1)
-		const tol = 0x1p-50
+		const tol, dtol = 0x1p-50, 1e-12
 		if math.Abs(w-prevW) <= tol*math.Abs(w) &&
-			math.Abs(wa-prevA) <= tol*(math.Abs(wa)+math.Abs(w)) &&
-			math.Abs(wb-prevB) <= tol*(math.Abs(wb)+math.Abs(w)) {
+			math.Abs(wa-prevA) <= dtol*(math.Abs(wa)+math.Abs(w)) &&
+			math.Abs(wb-prevB) <= dtol*(math.Abs(wb)+math.Abs(w)) {
 			return w, wa, wb
 		}
 		prevW, prevA, prevB = w, wa, wb
