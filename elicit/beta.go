@@ -248,6 +248,24 @@ func (d ScaledBeta) Density() func(float64) float64 {
 // CDF is P(X ≤ x).
 func (d ScaledBeta) CDF(x float64) float64 { return d.Beta.CDF(d.toUnit(x)) }
 
+// CDFFunc returns the CDF as a function for evaluating at many points,
+// with what I_x(α, β) shares across points (log B(α, β) and the Stirling
+// terms of incBeta) computed once, as Density does for the density.
+func (d ScaledBeta) CDFFunc() func(float64) float64 {
+	if d.Beta.Validate() != nil {
+		return d.CDF
+	}
+	c := newIncBeta(d.Alpha, d.Beta.Beta)
+	return func(x float64) float64 {
+		u := d.toUnit(x)
+		if !(u > 0 && u < 1) {
+			return d.CDF(x)
+		}
+		lo, _ := c.tails(u, 1-u)
+		return lo
+	}
+}
+
 // Survival is P(X > x), with full relative precision in the upper tail.
 func (d ScaledBeta) Survival(x float64) float64 { return d.Beta.Survival(d.toUnit(x)) }
 

@@ -506,7 +506,11 @@ func (q *lsq) branchAndBound(best fitResult) fitResult {
 			continue
 		}
 		processed++
-		if processed > bnbMaxCells {
+		budget := bnbMaxCells
+		if q.cells > 0 {
+			budget = q.cells
+		}
+		if processed > budget {
 			best.certified = false
 			break
 		}

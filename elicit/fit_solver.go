@@ -21,6 +21,9 @@ type lsq struct {
 	// evals counts evaluations of I_x(α, β) (with or without
 	// derivatives), for the tests and benchmarks.
 	evals int
+	// cells, when positive, replaces bnbMaxCells as the branch and
+	// bound's budget.
+	cells int
 }
 
 func newLSQ(u, p []float64) *lsq {

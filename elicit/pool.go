@@ -667,6 +667,16 @@ func (r Representation) representationWarnings() []string {
 // of the cost; the fit on the whole grid starts from there.
 const searchStride = 5
 
+// representationCells is the branch and bound's budget in the search for
+// the representing Beta, and representationClose the largest probability
+// error on the subset at which the local fits from the two starts settle
+// it (TestBestBetaFastPathMatchesGrid checks the rule against an
+// exhaustive search).
+const (
+	representationCells = 40
+	representationClose = 0.035
+)
+
 // subsample is the problem on every stride-th point (the stride-th, the
 // 2·stride-th, …), or on all of them when that would leave fewer than 4.
 func subsample(u, up []float64, stride int) *lsq {
@@ -695,7 +705,23 @@ func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, err error
 	if v := p.Variance() / (p.width() * p.width()); v > 0 && v < m*(1-m) {
 		starts = append(starts, clampBox(logShape(m, m*(1-m)/v-1)))
 	}
-	first := coarse.fitGlobal(starts)
+	// A pool close to one Beta is settled by local fits from these
+	// starts, when the best misses no subset probability by more than
+	// representationClose; otherwise the global search runs, with its
+	// branch and bound kept short (representationCells), since a Beta that
+	// far from the pool is flagged anyway.
+	var first fitResult
+	first.s = math.Inf(1)
+	for _, st := range starts {
+		if th, s := coarse.localFit(st); s < first.s {
+			first.th, first.s = th, s
+		}
+	}
+	coarse.sse(first.th)
+	if coarse.maxAbsResid() > representationClose {
+		coarse.cells = representationCells
+		first = coarse.fitGlobal(append(starts, first.th))
+	}
 	full := newLSQ(u, up)
 	if len(full.u) == len(coarse.u) {
 		full = coarse
