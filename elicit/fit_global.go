@@ -249,11 +249,12 @@ func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope, dF fl
 	fk := q.p[k] + q.r[k]
 	pr := probe{a: a}
 	var okLo, okHi bool
+	var gLo, gHi float64
 	// The band's edges need not be exact, only on the outer side of
 	// t_lo and t_hi (which widens the band a little).
 	slack := 0.02 * rho
-	pr.bLo, okLo = q.levelTheta2(k, a, tLo, guess+(tLo-fk)/dF, -1, slack, dF)
-	pr.bHi, okHi = q.levelTheta2(k, a, tHi, guess+(tHi-fk)/dF, +1, slack, dF)
+	pr.bLo, gLo, okLo = q.levelTheta2(k, a, tLo, guess+(tLo-fk)/dF, -1, slack, dF)
+	pr.bHi, gHi, okHi = q.levelTheta2(k, a, tHi, guess+(tHi-fk)/dF, +1, slack, dF)
 	if !okLo || !okHi {
 		return pr
 	}
@@ -262,10 +263,15 @@ func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope, dF fl
 		c := newIncBeta(math.Exp(a), math.Exp(b))
 		pr.resid[e] = make([]float64, len(q.u))
 		for i := range q.u {
+			if i == k {
+				// The pivot's residual is known from the level solve.
+				pr.resid[e][i] = [2]float64{tLo - q.p[k] + gLo, tHi - q.p[k] + gHi}[e]
+				continue
+			}
 			lo, up := c.tails(q.u[i], q.y[i])
 			pr.resid[e][i] = q.resid(i, lo, up)
 		}
-		q.evals += len(q.u)
+		q.evals += len(q.u) - 1
 	}
 	sum := 0.0
 	for i := range q.u {
@@ -296,7 +302,7 @@ func (q *lsq) excluded(th [2]float64, k int, a, tLo, tHi, rho, dir, slope, dF fl
 // by secant steps in θ₂ (F rises with θ₂; the first step uses slope, the
 // pivot's ∂F/∂θ₂ at θ*) inside an expanding bracket. ok is false when θ₂
 // would leave [logParamMin − 40, logParamMax + 40].
-func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (float64, bool) {
+func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (float64, float64, bool) {
 	a := math.Exp(th1)
 	lo, hi := math.Inf(-1), math.Inf(1)
 	x := guess
@@ -304,7 +310,7 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (flo
 	const limit = 40
 	for it := 0; it < 100; it++ {
 		if x < logParamMin-limit || x > logParamMax+limit {
-			return x, false
+			return x, 0, false
 		}
 		c := newIncBeta(a, math.Exp(x))
 		l, u := c.tails(q.u[k], q.y[k])
@@ -316,11 +322,12 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (flo
 		} else {
 			g = l - t
 		}
+		// g is F(u_k) − t in either tail's form.
 		if side < 0 && g <= 0 && g >= -slack {
-			return x, true
+			return x, g, true
 		}
 		if side > 0 && g >= 0 && g <= slack {
-			return x, true
+			return x, g, true
 		}
 		if g < 0 {
 			lo = x
@@ -344,11 +351,11 @@ func (q *lsq) levelTheta2(k int, th1, t, guess, side, slack, slope float64) (flo
 			}
 		}
 		if hi-lo < 1e-14 {
-			return x, (side < 0 && g <= 0) || (side > 0 && g >= 0)
+			return x, g, (side < 0 && g <= 0) || (side > 0 && g >= 0)
 		}
 		x = next
 	}
-	return x, false
+	return x, 0, false
 }
 
 // modelBox is the largest square [θ* ± h] (h from a fixed list, 0 when

@@ -405,8 +405,9 @@ func (c *incBeta) nearerEnd(p, lo, hi float64) float64 {
 // estimate x0 (gonum's inverse, or a stated value near the answer). It
 // works in the smaller tail and in logs, on g(x) = ln I_x − ln p for
 // p ≤ ½ and g(x) = ln(1−p) − ln(1 − I_x) above, which is increasing and
-// keeps its relative precision however far out the tail is. Newton steps
-// x ← x − g/g′, g′ = f(x)/tail(x), run inside a bracket that every
+// keeps its relative precision however far out the tail is. Halley steps
+// (Newton's x ← x − g/g′, g′ = f(x)/tail(x), with the second-order
+// correction) run inside a bracket that every
 // evaluation narrows, and a step that leaves the bracket is replaced by
 // bisection, geometric near 0 and near 1 (bisect), so the solve always
 // converges: to a Newton step below 2⁻⁵⁰ of min(x, 1−x), or to a
@@ -440,8 +441,22 @@ func (c *incBeta) quantileFrom(p, x0 float64) float64 {
 			return x
 		}
 		next := math.NaN()
-		if f := c.density(x, y); t > 0 && f > 0 && !math.IsInf(g, 0) {
-			next = x - g*t/f
+		if f := c.density(x, y); t > 0 && f > 0 && !math.IsInf(g, 0) && !math.IsInf(f, 0) {
+			// Halley's step on g: with g′ = f/tail and c₁ = f′/f =
+			// (a−1)/x − (b−1)/(1−x), g″ = g′(c₁ ∓ g′) (− in the lower
+			// tail, + in the upper); plain Newton when the correction is
+			// large.
+			g1 := f / t
+			c1 := (c.a-1)/x - (c.b-1)/y
+			g2 := g1 * (c1 - g1)
+			if upper {
+				g2 = g1 * (c1 + g1)
+			}
+			step := g / g1
+			if den := 1 - 0.5*step*g2/g1; den > 0.5 && den < 2 {
+				step /= den
+			}
+			next = x - step
 		}
 		if next > lo && next < hi {
 			if math.Abs(next-x) <= 0x1p-50*math.Min(next, 1-next) {
