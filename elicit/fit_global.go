@@ -39,10 +39,12 @@ import (
 // everything outside R is proved no better than θ*. Inside R the
 // residuals are checked against their linear (Gauss–Newton) model at R's
 // corners; a second basin inside R would need the residuals to bend away
-// from that model by a sizeable share of ρ across R, and when they do
-// (or R cannot be formed, as for poor fits where ρ is large) more starts
-// are tried inside R and on a grid, and then branch and bound
-// (branchAndBound) covers the whole box: fact 1 bounds every F(uᵢ) over a
+// from that model by a sizeable share of ρ across R. When they do, local
+// fits start from R's four corners (and a grid of starts over the box):
+// if none leads below S*, R counts as covered. When R cannot be formed
+// (as for poor fits where ρ is large), or a start finds a lower point
+// whose own R is not covered in turn, branch and bound (branchAndBound)
+// covers the whole box: fact 1 bounds every F(uᵢ) over a
 // cell [α₁, α₂]×[β₁, β₂] between its values at (α₂, β₁) and (α₁, β₂),
 // hence S from below, and a cell is dropped when that bound is at least
 // S* − τ (τ = certTol·S*), or when it lies in the neighbourhood of θ*
@@ -97,24 +99,52 @@ func (q *lsq) fitGlobal(starts [][2]float64) fitResult {
 		return best
 	}
 	// More starts: the corners of R when it could be formed, and a grid.
+	// When none of them leads below S*, R is covered: every point outside
+	// it is proved no better, and local fits from its four corners all
+	// return to θ* or stop higher.
+	formed := box[1] > box[0]
 	var more [][2]float64
-	if box[1] > box[0] {
+	if formed {
 		more = append(more, [2]float64{box[0], box[2]}, [2]float64{box[1], box[3]},
 			[2]float64{box[0], box[3]}, [2]float64{box[1], box[2]})
 	}
 	more = append(more, q.gridStarts(moreStarts)...)
-	prev := best.th
+	prev, prevS := best.th, best.s
 	for _, st := range more {
 		try(st)
 	}
-	if best.th != prev {
-		if !atBest {
+	if !(best.s < prevS-q.tau(prevS)) {
+		best.th, best.s = prev, prevS
+		if formed {
 			q.sseJac(best.th)
-		}
-		if _, ok := q.certify(best.th, best.s); ok {
 			best.certified = true
 			return best
 		}
+	} else {
+		if !atBest {
+			q.sseJac(best.th)
+		}
+		box, ok := q.certify(best.th, best.s)
+		if ok {
+			best.certified = true
+			return best
+		}
+		if box[1] > box[0] {
+			// R around the new best, covered the same way.
+			prev, prevS = best.th, best.s
+			for _, c := range [4][2]float64{{box[0], box[2]}, {box[1], box[3]}, {box[0], box[3]}, {box[1], box[2]}} {
+				try(c)
+			}
+			if !(best.s < prevS-q.tau(prevS)) {
+				best.th, best.s = prev, prevS
+				q.sseJac(best.th)
+				best.certified = true
+				return best
+			}
+		}
+	}
+	if !atBest {
+		q.sseJac(best.th)
 	}
 	return q.branchAndBound(best)
 }
@@ -402,7 +432,7 @@ const (
 	bnbMinWidth = 1e-9
 	// bnbMaxCells bounds the work; past it the fit is returned without
 	// proof (certified false), which the tests count.
-	bnbMaxCells = 400
+	bnbMaxCells = 150
 )
 
 type bnbCell struct {
