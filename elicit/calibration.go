@@ -66,6 +66,12 @@ func (a SeedAssessment) validateQuantiles() error {
 		if math.IsNaN(q) || math.IsInf(q, 0) {
 			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleFinite, "got %v", q)
 		}
+		// Ranges are formed from differences of quantiles: beyond
+		// ±maxBound they would overflow (issue 11: ±1.7e308 gave
+		// "every calibration score is 0").
+		if math.Abs(q) > maxBound {
+			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleBoundsRange, "got %v", q)
+		}
 		if i > 0 && !(q > a.Quantiles[i-1]) {
 			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleValueIncreasing, "%v after %v", q, a.Quantiles[i-1])
 		}
@@ -280,6 +286,9 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 	if math.IsNaN(x) || math.IsInf(x, 0) {
 		return seedQuestion{}, inputErr(field, RuleFinite, "got %v", x)
 	}
+	if math.Abs(x) > maxBound {
+		return seedQuestion{}, inputErr(field, RuleBoundsRange, "got %v", x)
+	}
 	q := seedQuestion{name: name, realisation: x}
 	lo, hi := x, x
 	b, bounded := bounds[name]
@@ -290,6 +299,9 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 		}
 		if !(b[0] < b[1]) {
 			return seedQuestion{}, inputErr(bf, RuleBoundsOrder, "got [%v, %v]", b[0], b[1])
+		}
+		if math.Abs(b[0]) > maxBound || math.Abs(b[1]) > maxBound {
+			return seedQuestion{}, inputErr(bf, RuleBoundsRange, "got [%v, %v]", b[0], b[1])
 		}
 		if x < b[0] || x > b[1] {
 			return seedQuestion{}, inputErr(field, RuleInRange, "%v outside [%v, %v]", x, b[0], b[1])
@@ -311,6 +323,9 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 	}
 	sort.Slice(q.answers, func(i, j int) bool { return q.answers[i].expert < q.answers[j].expert })
 	q.lo, q.hi = intrinsicRange(lo, hi, k)
+	if math.IsInf(q.lo, 0) || math.IsInf(q.hi, 0) || !(q.hi-q.lo < math.Inf(1)) {
+		return seedQuestion{}, inputErr("overshoot", RuleRangeOverflow, "question %q: [%v, %v] widened by %v", name, lo, hi, k)
+	}
 	if bounded {
 		q.lo, q.hi = math.Max(q.lo, b[0]), math.Min(q.hi, b[1])
 	}

@@ -6,18 +6,18 @@ import (
 )
 
 // Limits of every quick construction: α and β in [MinPriorShape,
-// MaxPriorShape], the box FitQuantiles searches. Above 1e9 gonum's
-// incomplete beta function loses the accuracy Parley needs (see
-// MaxUpdateTrials); below 1e-6 nearly all the probability sits within a
+// MaxPriorShape], Parley's accuracy envelope (MinShape, MaxShape; see
+// beta.go): above it the incomplete beta function loses the accuracy
+// Parley needs; below it nearly all the probability sits within a
 // rounding error of the bounds.
 const (
-	MinPriorShape = 1e-6
-	MaxPriorShape = 1e9
+	MinPriorShape = MinShape
+	MaxPriorShape = MaxShape
 )
 
 // Rules of the quick constructions beyond those of their inputs.
 const (
-	RuleShapeTooLarge     Rule = "the Beta would need alpha or beta above 1e9"
+	RuleShapeTooLarge     Rule = "the Beta would need alpha or beta above 1e7"
 	RuleShapeTooSmall     Rule = "the Beta would need alpha or beta below 1e-6"
 	RuleSampleOnUnitScale Rule = "an equivalent prior sample describes a proportion on [0, 1]"
 )
@@ -150,7 +150,7 @@ func Construct(in ConstructionInput) (Construction, error) {
 	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d)}
 	if in.Method.IsInterval() {
 		c.BelowLow = d.CDF(unit(in.Low))
-		c.AboveHigh = d.dist().Survival(unit(in.High))
+		c.AboveHigh = d.Survival(unit(in.High))
 		c.CoverageAchieved = 1 - c.BelowLow - c.AboveHigh
 	}
 	return c, nil

@@ -251,7 +251,7 @@ func FitChips(edges []float64, counts []int) (Fit, error) {
 		cum += counts[i]
 		p[i] = float64(cum) / float64(total)
 	}
-	d, sse, resid, err := fitCumulative(u, p)
+	d, sse, resid, err := fitCumulative("edges", u, p)
 	if err != nil {
 		return Fit{}, err
 	}
@@ -273,5 +273,15 @@ func checkEdges(field string, edges []float64) error {
 			return inputErr(f, RuleValueIncreasing, "%v after %v", e, edges[i-1])
 		}
 	}
-	return nil
+	last := len(edges) - 1
+	if err := checkBounds(edges[0], edges[last]); err != nil {
+		ie := *err.(*InputError)
+		ie.Field = fmt.Sprintf("%s[0]", field)
+		if ie.Field == "upper" || ie.Rule == RuleBoundsWidth {
+			ie.Field = fmt.Sprintf("%s[%d]", field, last)
+		}
+		return &ie
+	}
+	// The inner edges are the points the fit uses, as stated values are.
+	return checkValues(field, edges[1:last], edges[0], edges[last], 1)
 }

@@ -258,9 +258,9 @@ func TestFitChipsUneven(t *testing.T) {
 	}
 	checkFinite(t, "uneven chips", f)
 	// No Beta does better from the exhaustive grid of starts.
-	q := &lsq{u: []float64{0.05, 0.1, 0.2, 0.3, 0.5}, p: cum, r: make([]float64, 5), rh: make([]float64, 5)}
+	q := newLSQ([]float64{0.05, 0.1, 0.2, 0.3, 0.5}, cum)
 	for _, th := range q.gridStarts(15) {
-		if _, g := q.fitFrom(th); g < f.SSE-1e-9 {
+		if _, g := q.localFit(th); g < f.SSE-1e-9 {
 			t.Errorf("grid start reaches %g < %g", g, f.SSE)
 		}
 	}
@@ -279,6 +279,10 @@ func TestFitChipsRules(t *testing.T) {
 		{"too many bins", make([]float64, MaxBins+2), make([]int, MaxBins+1), "edges", RuleCount},
 		{"edge NaN", []float64{0, math.NaN(), 0.4, 1}, []int{1, 1, 1}, "edges[1]", RuleFinite},
 		{"edge order", []float64{0, 0.4, 0.4, 1}, []int{1, 1, 1}, "edges[2]", RuleValueIncreasing},
+		// Issue 11: a subnormal inner edge was accepted.
+		{"edge subnormal", []float64{0, 1e-320, 0.4, 1}, []int{1, 1, 1}, "edges[1]", RuleValueNearBound},
+		{"edges too close", []float64{0, 0.4, 0.4000000001, 1}, []int{1, 1, 1}, "edges[2]", RuleValuesTooClose},
+		{"edges overflow", []float64{-1e308, 0, 0.4, 1e308}, []int{1, 1, 1}, "edges[0]", RuleBoundsRange},
 		{"count length", edges, []int{1, 2, 3}, "counts", RuleLengthMatch},
 		{"negative", edges, []int{1, 2, -3, 1, 1}, "counts[2]", RuleNonNegative},
 		{"huge", edges, []int{1, 2, 3, 2_000_000_000, 1}, "counts[3]", RuleCountRange},

@@ -30,6 +30,15 @@ const (
 	RuleUnknown           Rule = "unknown value"
 	RuleRequired          Rule = "is required"
 	RuleTooLong           Rule = "is too long"
+	RuleValueNearBound    Rule = "must lie at least 1e-10 of the range away from the lower and upper bounds"
+	RuleValuesTooClose    Rule = "is too close to the value before it to be told apart (they must differ by at least a millionth of their distance to the nearer bound)"
+	RuleProbRange         Rule = "must lie between 1e-12 and 1 − 1e-12"
+	RuleBoundsRange       Rule = "must lie between -1e300 and 1e300"
+	RuleBoundsWidth       Rule = "upper must exceed lower by at least 1e-12 of their size"
+	RulePosteriorRange    Rule = "the posterior's alpha and beta must not exceed 1e+07 (the accuracy envelope)"
+	RuleRangeOverflow     Rule = "widens a question's range beyond the largest number"
+	RuleFitRange          Rule = "lie too close together or too close to a bound: no Beta with alpha and beta between 1e-06 and 1e+07 fits them"
+	RuleShapeRange        Rule = "must lie between 1e-06 and 1e+07 (the accuracy envelope)"
 )
 
 // InputError reports input that breaks one named rule for one field.

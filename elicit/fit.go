@@ -6,8 +6,6 @@ import (
 	"math"
 	"sort"
 
-	"gonum.org/v1/gonum/mat"
-	"gonum.org/v1/gonum/optimize"
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
@@ -57,9 +55,11 @@ type Fit struct {
 	Warnings     []Warning  `json:"warnings"`
 }
 
-// ErrFitFailed is returned (wrapped) when the optimiser cannot produce a
-// finite fit. It is never replaced by a guess.
-var ErrFitFailed = errors.New("elicit: the least-squares fit did not converge")
+// ErrFitFailed is returned (wrapped) when no Beta within the accuracy
+// envelope can be fitted where the input rules cannot say so beforehand,
+// as for a pool that no single Beta represents. It is never replaced by
+// a guess. (A judgement no Beta fits is refused with RuleFitRange.)
+var ErrFitFailed = errors.New("elicit: no Beta within the accuracy envelope fits")
 
 // FitQuantiles fits a Beta on [j.Lower, j.Upper] to the judgement by least
 // squares on the probability scale,
@@ -80,7 +80,7 @@ func FitQuantiles(j Judgement) (Fit, error) {
 	if err := j.Validate(); err != nil {
 		return Fit{}, err
 	}
-	d, sse, resid, err := fitCumulative(j.unit(), j.Probs)
+	d, sse, resid, err := fitCumulative("values", j.unit(), j.Probs)
 	if err != nil {
 		return Fit{}, err
 	}
@@ -100,7 +100,7 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		Warnings:   []Warning{},
 	}
 	for i, p := range probs {
-		f.Fitted[i] = d.quantileNearFrom(p, values[i], resid[i])
+		f.Fitted[i] = d.quantileNear(p, values[i])
 		f.MaxProbError = math.Max(f.MaxProbError, math.Abs(f.ProbErrors[i]))
 	}
 	for k, p := range [3]float64{0.05, 0.5, 0.95} {
@@ -121,31 +121,16 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 	return f
 }
 
-// quantileNear is d.Quantile(p) found by Newton steps (polishQuantile)
-// from x0, a value whose probability under d is already near p, such as
-// the stated value: a few steps from there cost less than gonum's inverse.
-// If the steps do not bring the residual down to rounding level it falls
-// back to Quantile.
+// quantileNear is d.Quantile(p) solved from x0, a value whose
+// probability under d is already near p, such as the stated value: a
+// few steps from there cost less than gonum's inverse.
 func (d ScaledBeta) quantileNear(p, x0 float64) float64 {
-	return d.quantileNearFrom(p, x0, math.NaN())
-}
-
-// quantileNearFrom is quantileNear when F(x0) − p = r0 is already known
-// (the fit's residual at a stated value); r0 NaN means unknown.
-func (d ScaledBeta) quantileNearFrom(p, x0, r0 float64) float64 {
 	u := d.toUnit(x0)
-	if u > 0 && u < 1 && p > 0 && p < 1 {
-		var y, r float64
-		if math.IsNaN(r0) {
-			y, r = d.Beta.polishQuantile(p, u, 8)
-		} else {
-			y, r = d.Beta.polishQuantileFrom(p, u, r0, 8, d.Beta.quantileResid(p))
-		}
-		if math.Abs(r) <= 1e-13*math.Min(p, 1-p) {
-			return d.Lower + d.width()*y
-		}
+	if !(p > 0 && p < 1) || d.Beta.Validate() != nil {
+		return d.Quantile(p)
 	}
-	return d.Quantile(p)
+	c := newIncBeta(d.Alpha, d.Beta.Beta)
+	return d.Lower + d.width()*c.quantileFrom(p, u)
 }
 
 // fitWarnings applies the warning rules to a fitted Beta.
@@ -174,264 +159,50 @@ func fitWarnings(d Beta, maxErr float64) []Warning {
 	return w
 }
 
-// Limits of the search in log-parameter space: α and β in [1e-6, 1e9].
-// Outside it the objective is +Inf, so line searches step back.
-var (
-	logParamMin = math.Log(1e-6)
-	logParamMax = math.Log(1e9)
-)
-
 const (
-	// closeFit is the largest probability error at which the fit from the
-	// moment-based start is accepted without trying further starts. Up to
-	// PoorFitThreshold two more starts are tried, at the same mean with
-	// α+β 30 times larger and smaller; beyond it, the whole grid.
-	closeFit = 0.035
-	// gridRestarts is how many grid points are used as further starts
-	// (all 15 levels of α+β: the starting objective is a poor guide to
-	// which basin holds the global minimum).
-	gridRestarts = 15
-	// exactTol is the largest probability error of an exactly determined
-	// (two-pair) fit after the root-finding polish.
-	exactTol = 1e-12
 	// exactAccept is the largest probability error at which a two-pair
-	// fit counts as exact; the polish aims at exactTol but rounding in
-	// the CDF at extreme shapes can leave a little more.
+	// fit counts as exact.
 	exactAccept = 1e-10
-	// edgeMargin: a fit within this distance (in log α or log β) of the
-	// search limits is refused as running off to α, β → 0 or ∞.
-	edgeMargin = 1.0
-	// fdStep is the forward-difference step in log α and log β.
-	fdStep = 1e-7
+	// boundTol: a fitted log α or log β within this of the search box's
+	// edge means the least-squares minimum lies on the edge.
+	boundTol = 1e-9
+	// moreStarts is how many starts from the grid of gridStarts are tried
+	// before the branch and bound when the first fit cannot be proved
+	// global.
+	moreStarts = 6
 )
 
-// fitCumulative is the generalised least-squares fitter behind
-// FitQuantiles and FitChips: it minimises Σ (F(uᵢ; α, β) − pᵢ)² for
-// points uᵢ strictly inside (0, 1) and cumulative fractions pᵢ in [0, 1]
-// (chips may put 0 or 1 at interior points). The caller validates.
-func fitCumulative(u, p []float64) (d Beta, sse float64, resid []float64, err error) {
-	q := &lsq{u: u, p: p, r: make([]float64, len(u)), rh: make([]float64, len(u))}
-	best, bestF := q.fitFrom(q.momentStart())
-	try := func(starts [][2]float64) {
-		for _, th := range starts {
-			if x, f := q.fitFrom(th); f < bestF {
-				best, bestF = x, f
-			}
-			if q.exactlyDetermined() && q.acceptable(best, exactAccept) {
-				return
-			}
-		}
+// fitCumulative is the least-squares fitter behind FitQuantiles and
+// FitChips: it minimises Σ (F(uᵢ; α, β) − pᵢ)² for points uᵢ strictly
+// inside (0, 1) and cumulative fractions pᵢ in [0, 1] (chips may put 0
+// or 1 at interior points) over the whole box MinShape ≤ α, β ≤
+// MaxShape, and proves the minimum global (fitGlobal). The caller
+// validates. A minimum on the edge of the box (the data want a Beta
+// beyond the accuracy envelope) and a two-pair judgement no Beta in the
+// box matches exactly are refused with RuleFitRange on field.
+func fitCumulative(field string, u, p []float64) (d Beta, sse float64, resid []float64, err error) {
+	q := newLSQ(u, p)
+	res := q.fitGlobal([][2]float64{q.momentStart()})
+	if !res.certified && !res.bnb {
+		res = q.fitGlobal(append([][2]float64{res.th}, q.gridStarts(moreStarts)...))
 	}
-	if !q.acceptable(best, closeFit) {
-		// Neighbouring basins lie mostly along α+β at the same mean.
-		m, ess := math.Exp(best[0]), math.Exp(best[0])+math.Exp(best[1])
-		m /= ess
-		try([][2]float64{clampBox(logShape(m, ess*30)), clampBox(logShape(m, ess/30))})
-		if !q.acceptable(best, PoorFitThreshold) {
-			try(q.gridStarts(gridRestarts))
-		}
-	}
-	d, err = fittedBeta(best, bestF)
-	if err != nil {
-		return Beta{}, 0, nil, err
-	}
-	if q.exactlyDetermined() && !(q.maxAbsResid(best[:]) <= exactAccept) {
-		return Beta{}, 0, nil, fmt.Errorf("%w: no Beta with alpha and beta between 1e-6 and 1e9 matches both stated pairs exactly (closest misses by %.3g)", ErrFitFailed, q.maxAbsResid(best[:]))
-	}
-	q.at(best[:])
-	return d, bestF, append([]float64(nil), q.r...), nil
-}
-
-// fittedBeta is the Beta at θ = (log α, log β) with objective f, or
-// ErrFitFailed if f is not finite or θ lies within edgeMargin of the
-// search limits (the fit runs off to α, β → 0 or ∞).
-func fittedBeta(th [2]float64, f float64) (Beta, error) {
-	d := Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}
-	if math.IsNaN(f) || math.IsInf(f, 0) || d.Validate() != nil {
-		return Beta{}, fmt.Errorf("%w: alpha %v, beta %v, objective %v", ErrFitFailed, d.Alpha, d.Beta, f)
+	th := res.th
+	sse = q.sse(th)
+	if math.IsNaN(sse) || math.IsInf(sse, 0) {
+		return Beta{}, 0, nil, fmt.Errorf("%w: objective %v at alpha %v, beta %v", ErrFitFailed, sse, math.Exp(th[0]), math.Exp(th[1]))
 	}
 	for _, t := range th {
-		if t < logParamMin+edgeMargin || t > logParamMax-edgeMargin {
-			return Beta{}, fmt.Errorf("%w: the best fit runs to the edge of the search (alpha %.3g, beta %.3g): no Beta with alpha and beta between 1e-6 and 1e9 fits these answers", ErrFitFailed, d.Alpha, d.Beta)
+		if t <= logParamMin+boundTol || t >= logParamMax-boundTol {
+			return Beta{}, 0, nil, inputErr(field, RuleFitRange,
+				"the closest Beta has alpha %.3g and beta %.3g, at the edge of the range", math.Exp(th[0]), math.Exp(th[1]))
 		}
 	}
-	return d, nil
-}
-
-// fitFrom is a local fit from θ₀, followed for exactly determined data by
-// the root-finding polish.
-func (q *lsq) fitFrom(th0 [2]float64) ([2]float64, float64) {
-	x, f := q.localFit(th0)
-	if q.exactlyDetermined() {
-		x = q.polishRoot(x)
-		f = q.sse(x[:])
+	if q.exactlyDetermined() && !(q.maxAbsResid() <= exactAccept) {
+		return Beta{}, 0, nil, inputErr(field, RuleFitRange,
+			"no Beta matches both stated pairs; the closest misses by %.3g", q.maxAbsResid())
 	}
-	return x, f
-}
-
-// acceptable reports whether a fit is good enough to skip further
-// starts: exact (exactAccept) for two pairs, and otherwise a largest
-// probability error of at most tol. The rule was checked against an
-// exhaustive search on random judgements (TestFitFastPath).
-func (q *lsq) acceptable(th [2]float64, tol float64) bool {
-	if q.exactlyDetermined() {
-		return q.maxAbsResid(th[:]) <= exactAccept
-	}
-	return q.maxAbsResid(th[:]) <= tol
-}
-
-// lsq is the least-squares problem in θ = (log α, log β), with the
-// residuals and their forward-difference Jacobian cached at the last θ.
-type lsq struct {
-	u, p  []float64
-	r, rh []float64 // residuals at θ and at a shifted θ
-	jac   [][2]float64
-	th    [2]float64 // θ at which r and jac are cached
-	hasR  bool
-	hasJ  bool
-}
-
-func inBox(th []float64) bool {
-	return th[0] >= logParamMin && th[0] <= logParamMax && th[1] >= logParamMin && th[1] <= logParamMax
-}
-
-// resid writes F(uᵢ; e^θ₀, e^θ₁) − pᵢ into r.
-func (q *lsq) resid(th []float64, r []float64) {
-	a, b := math.Exp(th[0]), math.Exp(th[1])
-	d := distuv.Beta{Alpha: a, Beta: b}
-	for i, x := range q.u {
-		r[i] = d.CDF(x) - q.p[i]
-	}
-}
-
-func (q *lsq) at(th []float64) {
-	if q.hasR && q.th[0] == th[0] && q.th[1] == th[1] {
-		return
-	}
-	q.th = [2]float64{th[0], th[1]}
-	q.resid(th, q.r)
-	q.hasR, q.hasJ = true, false
-}
-
-func (q *lsq) jacobian(th []float64) {
-	q.at(th)
-	if q.hasJ {
-		return
-	}
-	if q.jac == nil {
-		q.jac = make([][2]float64, len(q.u))
-	}
-	for k := 0; k < 2; k++ {
-		s := []float64{th[0], th[1]}
-		s[k] += fdStep
-		q.resid(s, q.rh)
-		for i := range q.u {
-			q.jac[i][k] = (q.rh[i] - q.r[i]) / fdStep
-		}
-	}
-	q.hasJ = true
-}
-
-func (q *lsq) sse(th []float64) float64 {
-	if !inBox(th) {
-		return math.Inf(1)
-	}
-	q.at(th)
-	s := 0.0
-	for _, v := range q.r {
-		s += v * v
-	}
-	return s
-}
-
-func (q *lsq) maxAbsResid(th []float64) float64 {
-	q.at(th)
-	m := 0.0
-	for _, v := range q.r {
-		m = math.Max(m, math.Abs(v))
-	}
-	return m
-}
-
-// grad is ∇S = 2 Jᵀ r.
-func (q *lsq) grad(g, th []float64) {
-	q.jacobian(th)
-	g[0], g[1] = 0, 0
-	for i, v := range q.r {
-		g[0] += 2 * q.jac[i][0] * v
-		g[1] += 2 * q.jac[i][1] * v
-	}
-}
-
-// hess is the Gauss–Newton approximation 2 JᵀJ of ∇²S.
-func (q *lsq) hess(h *mat.SymDense, th []float64) {
-	q.jacobian(th)
-	var h00, h01, h11 float64
-	for _, j := range q.jac {
-		h00 += 2 * j[0] * j[0]
-		h01 += 2 * j[0] * j[1]
-		h11 += 2 * j[1] * j[1]
-	}
-	h.SetSym(0, 0, h00)
-	h.SetSym(0, 1, h01)
-	h.SetSym(1, 1, h11)
-}
-
-// localFit minimises the objective from θ₀ with gonum's Newton direction
-// (Nocedal & Wright 2006, Algorithm 3.3, on the Gauss–Newton Hessian
-// 2JᵀJ) and gonum's backtracking (Armijo) line search, driven through
-// optimize.LinesearchMethod's reverse-communication Init/Iterate. Driving
-// it directly rather than through optimize.Minimize avoids Minimize's
-// goroutine hand-offs, which cost more than the fit itself here. It stops
-// when a major iteration improves the objective by less than 1e-10 + 1e-7·S
-// and returns the best point seen.
-func (q *lsq) localFit(th0 [2]float64) ([2]float64, float64) {
-	return q.localFitTol(th0, 1e-10, 1e-7)
-}
-
-// localFitTol is localFit stopping when a major iteration improves the
-// objective by less than abs + rel·S.
-func (q *lsq) localFitTol(th0 [2]float64, abs, rel float64) ([2]float64, float64) {
-	best, bestF := th0, q.sse(th0[:])
-	if math.IsInf(bestF, 0) || math.IsNaN(bestF) {
-		return best, bestF
-	}
-	loc := &optimize.Location{
-		X:        []float64{th0[0], th0[1]},
-		F:        bestF,
-		Gradient: make([]float64, 2),
-		Hessian:  mat.NewSymDense(2, nil),
-	}
-	q.grad(loc.Gradient, loc.X)
-	q.hess(loc.Hessian, loc.X)
-	ls := &optimize.LinesearchMethod{
-		NextDirectioner: &optimize.Newton{Increase: 5},
-		Linesearcher:    &optimize.Backtracking{},
-	}
-	op, err := ls.Init(loc)
-	for evals := 0; err == nil && evals < 300; evals++ {
-		if op == optimize.MajorIteration {
-			prev := bestF
-			if loc.F < bestF {
-				best, bestF = [2]float64{loc.X[0], loc.X[1]}, loc.F
-			}
-			if !(prev-bestF > abs+rel*bestF) {
-				break
-			}
-		} else {
-			if op&optimize.FuncEvaluation != 0 {
-				loc.F = q.sse(loc.X)
-			}
-			if op&optimize.GradEvaluation != 0 {
-				q.grad(loc.Gradient, loc.X)
-			}
-			if op&optimize.HessEvaluation != 0 {
-				q.hess(loc.Hessian, loc.X)
-			}
-		}
-		op, err = ls.Iterate(loc)
-	}
-	return best, bestF
+	d = Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}
+	return d, sse, append([]float64(nil), q.r...), nil
 }
 
 // exactlyDetermined reports whether the data are two pairs with
@@ -446,34 +217,6 @@ func (q *lsq) exactlyDetermined() bool {
 		}
 	}
 	return true
-}
-
-// polishRoot solves r(θ) = 0 for two residuals by Newton's method with the
-// forward-difference Jacobian, keeping a step only while it shrinks the
-// largest residual.
-func (q *lsq) polishRoot(th [2]float64) [2]float64 {
-	cur := q.maxAbsResid(th[:])
-	for it := 0; it < 20 && cur > exactTol; it++ {
-		q.jacobian(th[:])
-		j := q.jac
-		det := j[0][0]*j[1][1] - j[0][1]*j[1][0]
-		if det == 0 || math.IsNaN(det) {
-			break
-		}
-		r0, r1 := q.r[0], q.r[1]
-		d0 := (j[1][1]*r0 - j[0][1]*r1) / det
-		d1 := (-j[1][0]*r0 + j[0][0]*r1) / det
-		next := [2]float64{th[0] - d0, th[1] - d1}
-		if !inBox(next[:]) {
-			break
-		}
-		m := q.maxAbsResid(next[:])
-		if !(m < cur) {
-			break
-		}
-		th, cur = next, m
-	}
-	return th
 }
 
 // momentStart is the better (by the objective) of two moment-based starts
@@ -517,7 +260,7 @@ func (q *lsq) momentStart() [2]float64 {
 	best, bestF := cands[0], math.Inf(1)
 	for _, c := range cands {
 		c = clampBox(c)
-		if f := q.sse(c[:]); f < bestF {
+		if f := q.sse(c); f < bestF {
 			best, bestF = c, f
 		}
 	}
@@ -588,7 +331,7 @@ func (q *lsq) gridStarts(k int) [][2]float64 {
 		best := pt{f: math.Inf(1)}
 		for _, m := range means {
 			th := clampBox(logShape(m, ess))
-			if f := q.sse(th[:]); f < best.f {
+			if f := q.sse(th); f < best.f {
 				best = pt{th, f}
 			}
 		}
@@ -605,16 +348,6 @@ func (q *lsq) gridStarts(k int) [][2]float64 {
 // logShape is θ = (log mα, log (1−m)α) for mean m and α+β = ess.
 func logShape(m, ess float64) [2]float64 {
 	return [2]float64{math.Log(m * ess), math.Log((1 - m) * ess)}
-}
-
-func clampBox(th [2]float64) [2]float64 {
-	for k := range th {
-		th[k] = math.Max(logParamMin, math.Min(logParamMax, th[k]))
-		if math.IsNaN(th[k]) {
-			th[k] = 0
-		}
-	}
-	return th
 }
 
 // line is the least-squares line y ≈ a + b·x; ok is false with fewer than

@@ -183,17 +183,21 @@ func TestFitTwoPairsExact(t *testing.T) {
 	}
 }
 
-// TestFitFailsRatherThanGuess: judgements no Beta in the search range can
-// match give ErrFitFailed, never a made-up fit.
+// TestFitFailsRatherThanGuess: judgements that pass the value rules but
+// that no Beta within the envelope can match are refused with
+// RuleFitRange on values, never given a made-up fit.
 func TestFitFailsRatherThanGuess(t *testing.T) {
 	for _, j := range []Judgement{
-		{[]float64{0.01, 0.02}, []float64{0.5, 0.5000001}, 0, 1},
-		{[]float64{0.1, 0.9}, []float64{0.5, 0.5000001}, 0, 1},
-		{[]float64{0.5, 0.9}, []float64{1e-300, 1e-200}, 0, 1},
+		// Matching both needs α, β far above MaxShape.
+		{[]float64{0.01, 0.02}, []float64{0.5, 0.50001}, 0, 1},
+		{[]float64{0.1, 0.9}, []float64{0.5, 0.500001}, 0, 1},
+		// Rare values a few percent apart: β far above MaxShape.
+		{[]float64{0.05, 0.5, 0.95}, []float64{1e-9, 1.02e-9, 1.04e-9}, 0, 1},
 	} {
 		f, err := FitQuantiles(j)
-		if !errors.Is(err, ErrFitFailed) {
-			t.Errorf("%v: want ErrFitFailed, got %v (fit %+v)", j, err, f.Dist)
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Rule != RuleFitRange || ie.Field != "values" {
+			t.Errorf("%v: want values/RuleFitRange, got %v (fit %+v)", j, err, f.Dist)
 		}
 	}
 }
@@ -249,7 +253,7 @@ func TestFitFastPath(t *testing.T) {
 // TestFitTwoPairsSearch draws erratic two-pair judgements (values crowded
 // at either end of [0, 1], probabilities anywhere): whenever an exhaustive
 // search finds an exact match, FitQuantiles must find one too, and
-// otherwise it must refuse with ErrFitFailed.
+// otherwise it must refuse with RuleFitRange on values.
 func TestFitTwoPairsSearch(t *testing.T) {
 	rng := rand.New(rand.NewPCG(5, 3))
 	total := 60
@@ -283,7 +287,7 @@ func TestFitTwoPairsSearch(t *testing.T) {
 				t.Errorf("%v %v: max prob error %g", ps, us, f.MaxProbError)
 			}
 			checkFitReport(t, "two pairs", j, f)
-		case !errors.Is(err, ErrFitFailed):
+		case !isFitRange(err):
 			t.Errorf("%v %v: %v", ps, us, err)
 		case full < 1e-18:
 			t.Errorf("%v %v: refused, but an exhaustive search matches exactly (objective %g): %v", ps, us, full, err)
@@ -330,7 +334,7 @@ func TestFitJSON(t *testing.T) {
 // 1−1e-4 and at the stated points, α+β from 1e-3 to 1e7 (factors of 10).
 func exhaustiveFit(j Judgement) float64 {
 	u := j.unit()
-	q := &lsq{u: u, p: j.Probs, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+	q := newLSQ(u, j.Probs)
 	means := append([]float64{1e-4, 0.01, 0.99, 1 - 1e-4}, u...)
 	for m := 0.05; m < 0.96; m += 0.15 {
 		means = append(means, m)
@@ -339,10 +343,17 @@ func exhaustiveFit(j Judgement) float64 {
 	for e := -3.0; e <= 7; e++ {
 		for _, m := range means {
 			th := clampBox(logShape(m, math.Pow(10, e)))
-			if _, f := q.fitFrom(th); f < best {
+			if _, f := q.localFit(th); f < best {
 				best = f
 			}
 		}
 	}
 	return best
+}
+
+// isFitRange reports whether err refuses a judgement that no Beta within
+// the envelope fits (RuleFitRange).
+func isFitRange(err error) bool {
+	var ie *InputError
+	return errors.As(err, &ie) && ie.Rule == RuleFitRange
 }

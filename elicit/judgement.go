@@ -12,6 +12,26 @@ const (
 	MaxPairs = 9
 )
 
+// Limits that keep a judgement within what a fit can mean (the input-rule
+// table in DEVELOPERS.md).
+const (
+	// MinProb is the smallest probability Parley reads, and 1 − MinProb
+	// the largest: the accuracy envelope of quantiles reaches down to
+	// tail probabilities of 1e-12.
+	MinProb = 1e-12
+	// MinBoundGap is the least distance of a stated value from either
+	// bound, as a share of upper − lower. A Beta with α, β ≥ MinShape and
+	// ≤ MaxShape puts its bulk no closer to a bound than about 1e-10 of
+	// the range for the probabilities an expert states, and 4.9e-324 on
+	// [0, 1] says nothing a fit can use.
+	MinBoundGap = 1e-10
+	// MinValueGap is the least relative gap between consecutive values:
+	// values[i] − values[i−1] must be at least MinValueGap times the
+	// smaller of their distances to the nearer bound. Closer values
+	// cannot be told apart by a Beta within the envelope.
+	MinValueGap = 1e-6
+)
+
 // Judgement is one expert's quantile judgements on one bounded quantity:
 // P(X ≤ Values[i]) = Probs[i], with X in (Lower, Upper). For a proportion
 // Lower is 0 and Upper is 1.
@@ -39,35 +59,68 @@ func (j Judgement) Validate() error {
 	if err := CheckProbs("probs", j.Probs); err != nil {
 		return err
 	}
-	for i, x := range j.Values {
-		f := fmt.Sprintf("values[%d]", i)
+	return checkValues("values", j.Values, j.Lower, j.Upper, 0)
+}
+
+// checkValues checks stated values (or the inner edges of bins) on
+// (lower, upper): finite, strictly inside, strictly increasing, at least
+// MinBoundGap of the range from each bound and at least MinValueGap
+// apart (relative). It is the one place values are checked. Errors name
+// field[i + offset].
+func checkValues(field string, xs []float64, lower, upper float64, offset int) error {
+	w := upper - lower
+	for i, x := range xs {
+		f := fmt.Sprintf("%s[%d]", field, i+offset)
 		if math.IsNaN(x) || math.IsInf(x, 0) {
 			return inputErr(f, RuleFinite, "got %v", x)
 		}
-		if !(x > j.Lower && x < j.Upper) {
-			return inputErr(f, RuleValueInBounds, "%v not inside (%v, %v)", x, j.Lower, j.Upper)
+		if !(x > lower && x < upper) {
+			return inputErr(f, RuleValueInBounds, "%v not inside (%v, %v)", x, lower, upper)
 		}
-		if i > 0 && !(x > j.Values[i-1]) {
-			return inputErr(f, RuleValueIncreasing, "%v after %v", x, j.Values[i-1])
+		if i > 0 && !(x > xs[i-1]) {
+			return inputErr(f, RuleValueIncreasing, "%v after %v", x, xs[i-1])
+		}
+		if (x-lower)/w < MinBoundGap || (upper-x)/w < MinBoundGap {
+			return inputErr(f, RuleValueNearBound, "%v on (%v, %v)", x, lower, upper)
+		}
+		if i > 0 {
+			prev := xs[i-1]
+			near := math.Min(math.Min(prev-lower, upper-prev), math.Min(x-lower, upper-x))
+			if x-prev < MinValueGap*near {
+				return inputErr(f, RuleValuesTooClose, "%v after %v", x, prev)
+			}
 		}
 	}
 	return nil
 }
 
 // CheckProbs checks a list of probabilities: each finite, strictly inside
-// (0, 1), strictly increasing. It is the one place probabilities are checked.
+// (0, 1), within [MinProb, 1 − MinProb], strictly increasing. It is the
+// one place probabilities are checked.
 func CheckProbs(field string, ps []float64) error {
 	for i, p := range ps {
 		f := fmt.Sprintf("%s[%d]", field, i)
-		if math.IsNaN(p) || math.IsInf(p, 0) {
-			return inputErr(f, RuleFinite, "got %v", p)
-		}
-		if !(p > 0 && p < 1) {
-			return inputErr(f, RuleProbOpen, "got %v", p)
+		if err := checkProb(f, p); err != nil {
+			return err
 		}
 		if i > 0 && !(p > ps[i-1]) {
 			return inputErr(f, RuleProbIncreasing, "%v after %v", p, ps[i-1])
 		}
+	}
+	return nil
+}
+
+// checkProb checks one probability: finite, strictly inside (0, 1) and
+// within [MinProb, 1 − MinProb].
+func checkProb(field string, p float64) error {
+	if math.IsNaN(p) || math.IsInf(p, 0) {
+		return inputErr(field, RuleFinite, "got %v", p)
+	}
+	if !(p > 0 && p < 1) {
+		return inputErr(field, RuleProbOpen, "got %v", p)
+	}
+	if p < MinProb || p > 1-MinProb {
+		return inputErr(field, RuleProbRange, "got %v", p)
 	}
 	return nil
 }

@@ -21,9 +21,16 @@ func checkRule(t *testing.T, err error, field string, rule Rule) {
 
 func TestJudgementValidate(t *testing.T) {
 	nan, inf := math.NaN(), math.Inf(1)
-	ok := Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1}
-	if err := ok.Validate(); err != nil {
-		t.Fatalf("valid judgement rejected: %v", err)
+	for _, ok := range []Judgement{
+		{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1},
+		// At the limits of the rules: 1e-10 of the range from a bound,
+		// values a millionth of their distance to the bound apart, and
+		// probabilities 1e-12 from 0 and 1.
+		{Probs: []float64{1e-12, 0.5, 1 - 1e-12}, Values: []float64{1e-10, 1e-10 * (1 + 1.01e-6), 0.5}, Lower: 0, Upper: 1},
+	} {
+		if err := ok.Validate(); err != nil {
+			t.Fatalf("valid judgement %v rejected: %v", ok, err)
+		}
 	}
 	cases := []struct {
 		name  string
@@ -34,7 +41,10 @@ func TestJudgementValidate(t *testing.T) {
 		{"lower NaN", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, nan, 1}, "lower", RuleFinite},
 		{"upper Inf", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 0, inf}, "upper", RuleFinite},
 		{"bounds order", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 1, 0}, "lower", RuleBoundsOrder},
-		{"width overflows", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, -1e308, 1e308}, "upper", RuleFinite},
+		{"lower overflows a width", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, -1e308, 1e308}, "lower", RuleBoundsRange},
+		{"upper too large", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 0.2}, 0, 1e301}, "upper", RuleBoundsRange},
+		{"width below the size", Judgement{[]float64{0.5, 0.9}, []float64{1e6 + 1e-8, 1e6 + 2e-8}, 1e6, 1e6 + 1e-7}, "upper", RuleBoundsWidth},
+		{"width subnormal", Judgement{[]float64{0.5, 0.9}, []float64{1e-321, 2e-321}, 0, 1e-320}, "upper", RuleBoundsWidth},
 		{"length", Judgement{[]float64{0.5, 0.9}, []float64{0.1}, 0, 1}, "values", RuleLengthMatch},
 		{"too few", Judgement{[]float64{0.5}, []float64{0.1}, 0, 1}, "probs", RuleCount},
 		{"too many", Judgement{make([]float64, 10), make([]float64, 10), 0, 1}, "probs", RuleCount},
@@ -46,6 +56,14 @@ func TestJudgementValidate(t *testing.T) {
 		{"value at bound", Judgement{[]float64{0.5, 0.9}, []float64{0, 0.2}, 0, 1}, "values[0]", RuleValueInBounds},
 		{"value above", Judgement{[]float64{0.5, 0.9}, []float64{0.1, 1.2}, 0, 1}, "values[1]", RuleValueInBounds},
 		{"value order", Judgement{[]float64{0.5, 0.9}, []float64{0.2, 0.2}, 0, 1}, "values[1]", RuleValueIncreasing},
+		// Issue 11's degenerate judgement: subnormal values on [0, 1].
+		{"value subnormal", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{4.9e-324, 1e-323, 1.5e-323}, 0, 1}, "values[0]", RuleValueNearBound},
+		{"value near upper", Judgement{[]float64{0.5, 0.9}, []float64{0.5, 1 - 1e-11}, 0, 1}, "values[1]", RuleValueNearBound},
+		{"value near bound, scaled", Judgement{[]float64{0.5, 0.9}, []float64{10 + 1e-10, 20}, 10, 110}, "values[0]", RuleValueNearBound},
+		{"values too close", Judgement{[]float64{0.5, 0.9}, []float64{0.5, 0.5000001}, 0, 1}, "values[1]", RuleValuesTooClose},
+		{"rare values too close", Judgement{[]float64{0.5, 0.9}, []float64{1e-8, 1e-8 + 1e-15}, 0, 1}, "values[1]", RuleValuesTooClose},
+		{"prob subnormal", Judgement{[]float64{1e-320, 0.5}, []float64{0.1, 0.2}, 0, 1}, "probs[0]", RuleProbRange},
+		{"prob near 1", Judgement{[]float64{0.5, 1 - 1e-13}, []float64{0.1, 0.2}, 0, 1}, "probs[1]", RuleProbRange},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -60,17 +60,22 @@ func TestLogPoolIsGeometricMean(t *testing.T) {
 }
 
 func TestLogPoolValidity(t *testing.T) {
-	// With normalised weights α = Σ wᵢαᵢ, which is positive in exact
-	// arithmetic; for subnormal αᵢ the weighted sum underflows to 0 and
-	// the pool cannot be normalised.
+	// Shapes outside [MinShape, MaxShape] are refused before pooling
+	// (issue 11: a log pool with alpha 1e308 overflowed).
 	tiny := math.SmallestNonzeroFloat64
-	_, err := LogPool(unitBetas(tiny, 2, tiny, 3), []float64{1, 1})
-	wantRule(t, err, "alpha", RuleLogPoolValid)
-	_, err = LogPool(unitBetas(2, tiny, 3, tiny), []float64{1, 1})
-	wantRule(t, err, "beta", RuleLogPoolValid)
-	// The αᵢ−1 form would cancel to 0 here; the pool must keep α.
-	got, err := LogPool(unitBetas(1e-17, 2), nil)
-	if err != nil || got.Alpha != 1e-17 {
-		t.Errorf("one expert with alpha 1e-17: %+v, %v", got, err)
+	_, err := LogPool(unitBetas(tiny, 2, 1, 3), []float64{1, 1})
+	wantRule(t, err, "experts[0].alpha", RuleShapeRange)
+	_, err = LogPool(unitBetas(2, 3, 1e308, 3), nil)
+	wantRule(t, err, "experts[1].alpha", RuleShapeRange)
+	// With normalised weights α = Σ wᵢαᵢ is a convex combination: its
+	// rounding stays within the smallest and largest αᵢ, so a pool of
+	// shapes at MinShape is still valid.
+	got, err := LogPool(unitBetas(MinShape, 2, MinShape, 3, MinShape, 4), []float64{1, 1, 1})
+	if err != nil || got.Alpha < MinShape || got.Validate() != nil {
+		t.Errorf("three experts with alpha %g: %+v, %v", MinShape, got, err)
+	}
+	got, err = LogPool(unitBetas(MaxShape, 2, MaxShape, 3, MaxShape, 4), []float64{0.1, 0.3, 0.7})
+	if err != nil || got.Alpha > MaxShape || got.Validate() != nil {
+		t.Errorf("three experts with alpha %g: %+v, %v", MaxShape, got, err)
 	}
 }

@@ -4,9 +4,6 @@ import (
 	"errors"
 	"fmt"
 	"math"
-	"sort"
-
-	"gonum.org/v1/gonum/mathext"
 )
 
 // RuleSameBounds is broken when the experts' distributions to be pooled
@@ -36,7 +33,7 @@ type Pool struct {
 	Lower      float64     `json:"lower"`
 	Upper      float64     `json:"upper"`
 
-	lnB []float64 // log B(αᵢ, βᵢ), for the density
+	ib []incBeta // each component's incomplete beta function
 }
 
 // LinearPool returns the linear opinion pool of dists with the given
@@ -55,7 +52,7 @@ func LinearPool(dists []ScaledBeta, weights []float64) (Pool, error) {
 			continue
 		}
 		p.Components = append(p.Components, Component{Dist: d, Weight: w[i]})
-		p.lnB = append(p.lnB, mathext.Lbeta(d.Alpha, d.Beta.Beta))
+		p.ib = append(p.ib, newIncBeta(d.Alpha, d.Beta.Beta))
 	}
 	return p, nil
 }
@@ -145,32 +142,47 @@ func (p Pool) Validate() error {
 
 func (p Pool) width() float64 { return p.Upper - p.Lower }
 
-// withLogBeta returns p with its cache of log B(αᵢ, βᵢ) filled in, for a
-// Pool that was not built by LinearPool (a literal, or decoded JSON).
-func (p Pool) withLogBeta() Pool {
-	if len(p.lnB) == len(p.Components) {
+// withIncBeta returns p with its components' incomplete beta functions
+// filled in, for a Pool that was not built by LinearPool (a literal, or
+// decoded JSON).
+func (p Pool) withIncBeta() Pool {
+	if len(p.ib) == len(p.Components) {
 		return p
 	}
-	p.lnB = make([]float64, len(p.Components))
+	p.ib = make([]incBeta, len(p.Components))
 	for i, c := range p.Components {
-		p.lnB[i] = mathext.Lbeta(c.Dist.Alpha, c.Dist.Beta.Beta)
+		p.ib[i] = newIncBeta(c.Dist.Alpha, c.Dist.Beta.Beta)
 	}
 	return p
 }
 
-// unitCDF is Σ wᵢ Iᵤ(αᵢ, βᵢ) at u in [0, 1].
-func (p Pool) unitCDF(u float64) float64 {
+// unitTails is Σ wᵢ Iᵤ(αᵢ, βᵢ) and Σ wᵢ (1 − Iᵤ(αᵢ, βᵢ)) at u in [0, 1],
+// each summed from the components' own tails, so that a small pooled
+// tail keeps its relative precision.
+func (p Pool) unitTails(u float64) (lower, upper float64) {
 	switch {
 	case u <= 0:
-		return 0
+		return 0, 1
 	case u >= 1:
-		return 1
+		return 1, 0
 	}
-	var s float64
-	for _, c := range p.Components {
-		s += c.Weight * mathext.RegIncBeta(c.Dist.Alpha, c.Dist.Beta.Beta, u)
+	y := 1 - u
+	for i, c := range p.Components {
+		l, r := p.ib[i].tails(u, y)
+		lower += c.Weight * l
+		upper += c.Weight * r
 	}
-	return s
+	return lower, upper
+}
+
+// resid is F(u) − prob taken in the smaller tail: Σ wᵢ Iᵤ − prob for
+// prob ≤ ½, (1 − prob) − Σ wᵢ(1 − Iᵤ) above. It rises with u.
+func (p Pool) resid(u, prob float64) float64 {
+	l, r := p.unitTails(u)
+	if prob > 0.5 {
+		return (1 - prob) - r
+	}
+	return l - prob
 }
 
 // unitDensity is the unit-scale density f(u) and its first two
@@ -181,10 +193,9 @@ func (p Pool) unitDensity(u float64) (f, df, d2f float64) {
 	if !(u > 0 && u < 1) {
 		return 0, 0, 0
 	}
-	lu, l1u := math.Log(u), math.Log1p(-u)
 	for i, c := range p.Components {
 		a, b := c.Dist.Alpha-1, c.Dist.Beta.Beta-1
-		fi := c.Weight * math.Exp(a*lu+b*l1u-p.lnB[i])
+		fi := c.Weight * p.ib[i].density(u, 1-u)
 		g1 := a/u - b/(1-u)
 		g2 := -a/(u*u) - b/((1-u)*(1-u))
 		f += fi
@@ -211,7 +222,8 @@ func (p Pool) CDF(x float64) float64 {
 	if p.Validate() != nil {
 		return math.NaN()
 	}
-	return p.unitCDF((x - p.Lower) / p.width())
+	l, _ := p.withIncBeta().unitTails((x - p.Lower) / p.width())
+	return l
 }
 
 // Mean is Σ wᵢ μᵢ, the weighted mean of the components' means.
@@ -243,8 +255,10 @@ func (p Pool) SD() float64 { return math.Sqrt(p.Variance()) }
 // Quantile is the pooled inverse CDF at prob in [0, 1]: the root of
 // F(x) = prob found by quantileIn between the smallest and the largest of
 // the components' own quantiles at prob, which bracket it because
-// Σ wᵢ Fᵢ(minᵢ qᵢ) ≤ prob ≤ Σ wᵢ Fᵢ(maxᵢ qᵢ). It returns Lower for
-// prob ≤ 0 and Upper for prob ≥ 1, and NaN for a pool with no components.
+// Σ wᵢ Fᵢ(minᵢ qᵢ) ≤ prob ≤ Σ wᵢ Fᵢ(maxᵢ qᵢ); where the pooled CDF is
+// flat there, the midpoint of the flat set (see PoolQuantile). It
+// returns Lower for prob ≤ 0 and Upper for prob ≥ 1, and NaN for an
+// invalid pool.
 func (p Pool) Quantile(prob float64) float64 {
 	if p.Validate() != nil || math.IsNaN(prob) {
 		return math.NaN()
@@ -255,38 +269,73 @@ func (p Pool) Quantile(prob float64) float64 {
 	case prob >= 1:
 		return p.Upper
 	}
-	p = p.withLogBeta()
+	p = p.withIncBeta()
 	lo, hi, mid := p.componentRange(prob)
-	u, _, _, _ := p.quantileIn(prob, lo, hi, mid)
-	return p.Lower + p.width()*u
+	u, f, _, _ := p.quantileIn(prob, lo, hi, mid)
+	return p.Lower + p.width()*p.settle(prob, u, f).value
 }
 
-// Quantiles returns the pooled quantiles at probs, which must pass
-// CheckProbs (finite, strictly inside (0, 1), strictly increasing). The
-// first is bracketed as by Quantile. The increasing order lets every
-// later root be bracketed by the previous root and the upper bound, and
-// started from a third-order Taylor step of the quantile function from
-// the previous root, so most take one or two CDF evaluations.
+// PoolQuantile is one quantile of a pool. Where the pooled CDF is flat
+// to within its rounding over an interval wider than the quantile
+// accuracy (1e-9 relative) — between two experts who leave no
+// probability to speak of in a gap — every value of [Low, High] has
+// probability Prob as far as double precision can tell: the quantile is
+// not unique there, Unique is false and Value is the midpoint of
+// [Low, High]. Otherwise Low = High = Value.
+type PoolQuantile struct {
+	Prob   float64 `json:"prob"`
+	Value  float64 `json:"value"`
+	Unique bool    `json:"unique"`
+	Low    float64 `json:"low"`
+	High   float64 `json:"high"`
+}
+
+// Quantiles returns the pooled quantiles at probs (see QuantileSet).
 func (p Pool) Quantiles(probs []float64) ([]float64, error) {
+	qs, err := p.QuantileSet(probs)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]float64, len(qs))
+	for i, q := range qs {
+		out[i] = q.Value
+	}
+	return out, nil
+}
+
+// QuantileSet returns the pooled quantiles at probs, which must pass
+// CheckProbs (finite, inside [1e-12, 1 − 1e-12], strictly increasing),
+// with where each is not unique. The first is bracketed as by Quantile.
+// The increasing order lets every later root be bracketed by the previous
+// root and the upper bound, and started from a third-order Taylor step of
+// the quantile function from the previous root, so most take one or two
+// CDF evaluations.
+func (p Pool) QuantileSet(probs []float64) ([]PoolQuantile, error) {
 	if err := CheckProbs("probs", probs); err != nil {
 		return nil, err
 	}
 	if err := p.Validate(); err != nil {
 		return nil, err
 	}
-	out := make([]float64, len(probs))
+	out := make([]PoolQuantile, len(probs))
 	if len(probs) == 0 {
 		return out, nil
 	}
-	p = p.withLogBeta()
+	p = p.withIncBeta()
 	lo, hi, x0 := p.componentRange(probs[0])
+	w := p.width()
 	for i, pr := range probs {
 		if i > 0 {
 			hi = 1
 		}
 		u, f, df, d2f := p.quantileIn(pr, lo, hi, x0)
-		out[i] = p.Lower + p.width()*u
-		lo, x0 = u, u
+		set := p.settle(pr, u, f)
+		out[i] = PoolQuantile{Prob: pr, Value: p.Lower + w*set.value, Unique: set.unique,
+			Low: p.Lower + w*set.low, High: p.Lower + w*set.high}
+		lo, x0 = set.high, set.high
+		if !set.unique {
+			continue
+		}
 		if i+1 < len(probs) && f > 0 && finite3(f, df, d2f) {
 			// Third-order Taylor step of Q: Q′ = 1/f, Q″ = −f′/f³,
 			// Q‴ = (3f′² − f f″)/f⁵ (derivatives of an inverse function).
@@ -296,6 +345,70 @@ func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 		}
 	}
 	return out, nil
+}
+
+// flatSet is a root of the pooled CDF with the set it may stand for.
+type flatSet struct {
+	value, low, high float64
+	unique           bool
+}
+
+// poolFlatTol is the residual, relative to min(prob, 1 − prob), within
+// which the pooled CDF counts as equal to prob: one rounding of the sum
+// (2⁻⁵², an ulp of 1 relative), so that a flat set is the set where
+// double precision cannot tell F from prob.
+const poolFlatTol = 0x1p-52
+
+// poolFlatWide is the relative width (of min(u, 1−u)) beyond which a flat
+// set makes a quantile not unique. Between the quantile accuracy (1e-9)
+// and this width the midpoint of the set is returned as unique: the
+// pooled density there is so low that the quantile moves by more than
+// 1e-9 for a change of p in the last bit.
+const poolFlatWide = 1e-6
+
+// settle decides whether the root u of F = prob (density f there) is
+// unique: when the CDF, rising at rate f, crosses its rounding band well
+// within poolFlatWide of u it is; otherwise the set {v : |F(v) − prob| ≤
+// poolFlatTol·min(prob, 1−prob)} is found by bisection from both sides,
+// and its midpoint stands for the quantile, not unique when the set is
+// wider than poolFlatWide.
+func (p Pool) settle(prob, u, f float64) flatSet {
+	tol := poolFlatTol * math.Min(prob, 1-prob)
+	scale := math.Min(u, 1-u)
+	if f > 0 && !math.IsInf(f, 0) && tol/f <= 1e-9*scale {
+		return flatSet{value: u, low: u, high: u, unique: true}
+	}
+	// The set's ends: the last point below it and the first above it. A
+	// point is below (above) only when both ways of taking the residual,
+	// from the lower tail and from the upper, say so: either one that
+	// cannot tell F from prob puts the point in the set, which keeps the
+	// set symmetric for a symmetric pool.
+	edge := func(a, b float64, below bool) float64 {
+		for it := 0; it < 2000; it++ {
+			m := bisect(a, b)
+			if !(m > a && m < b) {
+				break
+			}
+			l, r := p.unitTails(m)
+			lo, up := l-prob, (1-prob)-r
+			if (below && lo < -tol && up < -tol) || (!below && !(lo > tol && up > tol)) {
+				a = m
+			} else {
+				b = m
+			}
+		}
+		if below {
+			return b
+		}
+		return a
+	}
+	low := edge(0, u, true)
+	high := edge(u, 1, false)
+	mid := 0.5 * (low + high)
+	if !(high-low > poolFlatWide*scale) {
+		return flatSet{value: mid, low: mid, high: mid, unique: true}
+	}
+	return flatSet{value: mid, low: low, high: high, unique: false}
 }
 
 // componentRange is the smallest, the largest and the weighted mean of
@@ -323,9 +436,6 @@ const (
 	// poolNewtonAccept is the same for a plain Newton step, whose error
 	// is of order δ² times the relative slope of the density.
 	poolNewtonAccept = 1e-9
-	// poolQuantilePTol is the CDF residual treated as an exact root: a few
-	// rounding errors of a sum of at most a few dozen terms near 1.
-	poolQuantilePTol = 4e-16
 )
 
 // quantileIn solves F(u) = prob for u in the bracket [lo, hi], where
@@ -339,8 +449,8 @@ const (
 // replaced by a bisection step. Bisection splits the bracket
 // geometrically when it spans orders of magnitude near 0 (or near 1, in
 // 1−u), so extreme shapes still converge in a few dozen steps. The root
-// is exact to about 1e-14 relative to min(u, 1−u), or to a CDF residual
-// of poolQuantilePTol. It also returns the density and its first two
+// is exact to about 1e-14 relative to min(u, 1−u), or to a residual of
+// poolFlatTol·min(prob, 1−prob). It also returns the density and its first two
 // derivatives at the last point evaluated.
 func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 	if lo >= hi {
@@ -352,10 +462,11 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 		x = bisect(lo, hi)
 	}
 	prevR := math.Inf(1)
+	tol := poolFlatTol * math.Min(prob, 1-prob)
 	for iter := 0; iter < 300; iter++ {
-		r := p.unitCDF(x) - prob
+		r := p.resid(x, prob)
 		f, df, d2f = p.unitDensity(x)
-		if math.Abs(r) <= poolQuantilePTol {
+		if math.Abs(r) <= tol {
 			return x, f, df, d2f
 		}
 		if r < 0 {
@@ -395,7 +506,7 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 // CDF residual, with its density and derivatives.
 func (p Pool) nearerEnd(prob, lo, hi float64) (u, f, df, d2f float64) {
 	u = hi
-	if math.Abs(p.unitCDF(lo)-prob) < math.Abs(p.unitCDF(hi)-prob) {
+	if math.Abs(p.resid(lo, prob)) < math.Abs(p.resid(hi, prob)) {
 		u = lo
 	}
 	f, df, d2f = p.unitDensity(u)
@@ -442,7 +553,23 @@ type Representation struct {
 	// QuantileDiffs are Q_B(p) − Q(p) at p = 0.05, 0.5 and 0.95, on the
 	// quantity's scale: the same distance read as values.
 	QuantileDiffs [3]float64 `json:"quantile_diffs"`
+	// SDRatio is the Beta's standard deviation over the pool's, and
+	// IntervalRatio the width of the Beta's central 90% interval over
+	// the pool's: how far the Beta's spread is from the pool's, which the
+	// CDF distance can understate (a pool of a sharp expert and a vague
+	// one, say, whose sd the vague one sets).
+	SDRatio       float64 `json:"sd_ratio"`
+	IntervalRatio float64 `json:"interval_ratio"`
+	// Warnings say, in sentences for a facilitator, where the Beta is
+	// far from the pool (RepresentationWarnings).
+	Warnings []string `json:"warnings"`
 }
+
+// SpreadRatioLimit is the largest factor by which the single Beta's sd,
+// or the width of its central 90% interval, may differ from the pool's
+// (either way) before the Beta is reported as far from the pool: a fifth
+// more or less spread is already a different prior to a decision maker.
+const SpreadRatioLimit = 1.2
 
 // representationGrid is the number of grid probabilities k/(n+1).
 const representationGrid = 99
@@ -482,7 +609,7 @@ func (p Pool) BestBeta() (Representation, error) {
 	if len(u) < 2 {
 		return Representation{}, fmt.Errorf("%w: fewer than 2 of the pool's grid quantiles lie inside the bounds", ErrFitFailed)
 	}
-	d, _, _, err := p.representationFit(u, up)
+	d, _, err := p.representationFit(u, up)
 	if err != nil {
 		return Representation{}, err
 	}
@@ -495,40 +622,48 @@ func (p Pool) BestBeta() (Representation, error) {
 		r.SSE += e * e
 		r.MaxCDFError = math.Max(r.MaxCDFError, math.Abs(e))
 	}
+	var bq [3]float64
 	for i, k := range [3]int{4, 49, 94} { // p = 0.05, 0.5, 0.95
-		r.QuantileDiffs[i] = r.Dist.Quantile(probs[k]) - qs[k]
+		bq[i] = r.Dist.Quantile(probs[k])
+		r.QuantileDiffs[i] = bq[i] - qs[k]
 	}
+	r.SDRatio = r.Dist.SD() / p.SD()
+	r.IntervalRatio = (bq[2] - bq[0]) / (qs[94] - qs[4])
+	r.Warnings = r.representationWarnings()
 	return r, nil
 }
 
-// Sizes and tolerances of the search for the representing Beta.
+// representationWarnings flags the Beta by the CDF distance
+// (PoorFitThreshold, the rule an expert's fit is judged by) and by the
+// spread ratios (SpreadRatioLimit).
+func (r Representation) representationWarnings() []string {
+	w := []string{}
+	if r.MaxCDFError > PoorFitThreshold {
+		w = append(w, fmt.Sprintf("The single Beta is far from the pool: their CDFs differ by up to %.3g (more than %.2g). Report the pool itself or agree a consensus judgement.", r.MaxCDFError, PoorFitThreshold))
+	}
+	far := func(x float64) bool { return !(x <= SpreadRatioLimit && x >= 1/SpreadRatioLimit) }
+	if far(r.SDRatio) {
+		w = append(w, fmt.Sprintf("The single Beta's standard deviation is %.3g times the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.SDRatio, 1/SpreadRatioLimit, SpreadRatioLimit))
+	}
+	if far(r.IntervalRatio) {
+		w = append(w, fmt.Sprintf("The single Beta's central 90%% interval is %.3g times as wide as the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.IntervalRatio, 1/SpreadRatioLimit, SpreadRatioLimit))
+	}
+	return w
+}
+
+// searchStride: the representing Beta is first fitted, and proved
+// global, on every fifth grid point (p = 0.05, 0.10, …, 0.95), a fifth
+// of the cost; the fit on the whole grid starts from there.
+const searchStride = 5
+
+// representationCells is the branch and bound's budget in the search for
+// the representing Beta, and representationClose the largest probability
+// error on the subset at which the local fits from the two starts settle
+// it (TestBestBetaFastPathMatchesGrid checks the rule against an
+// exhaustive search).
 const (
-	// searchStride: the basins are compared on every fifth grid point
-	// (p = 0.05, 0.10, …, 0.95), a fifth of the cost; only the final fit
-	// uses the whole grid.
-	searchStride = 5
-	// rankStride: the means of the grid of starts are taken at, and
-	// ranked on, every twentieth grid point.
-	rankStride = 20
-	// scanStride: the local fits from the grid of starts run on every
-	// tenth grid point.
-	scanStride = 10
-	// scanRel is the relative improvement at which the local fits from
-	// the grid of starts stop: enough to tell the basins apart.
-	scanRel = 1e-3
-	// scanRefine is how many distinct basins from the grid of starts are
-	// refitted on every fifth grid point.
-	scanRefine = 2
-	// sameBasin is the distance in log α and log β within which two
-	// local fits count as one basin.
-	sameBasin = 0.05
-	// polishRatio: every basin whose objective on the subset is within
-	// this factor of the best is refitted on the whole grid, since the
-	// order of close basins can change with the points.
-	polishRatio = 1.2
-	// polishRel is the relative improvement of the objective below which
-	// the final fit on the whole grid stops.
-	polishRel = 1e-10
+	representationCells = 40
+	representationClose = 0.035
 )
 
 // subsample is the problem on every stride-th point (the stride-th, the
@@ -541,92 +676,57 @@ func subsample(u, up []float64, stride int) *lsq {
 		}
 		u, up = cu, cp
 	}
-	return &lsq{u: u, p: up, r: make([]float64, len(u)), rh: make([]float64, len(u))}
-}
-
-// basin is a local minimum θ of an objective, with its value.
-type basin struct {
-	th [2]float64
-	f  float64
-}
-
-// distinctBasins sorts bs by objective and keeps the best of each group
-// within sameBasin of one another.
-func distinctBasins(bs []basin) []basin {
-	sort.SliceStable(bs, func(a, b int) bool { return bs[a].f < bs[b].f })
-	var out []basin
-	for _, b := range bs {
-		seen := false
-		for _, o := range out {
-			if math.Abs(b.th[0]-o.th[0]) <= sameBasin && math.Abs(b.th[1]-o.th[1]) <= sameBasin {
-				seen = true
-				break
-			}
-		}
-		if !seen && !math.IsNaN(b.f) {
-			out = append(out, b)
-		}
-	}
-	return out
+	return newLSQ(u, up)
 }
 
 // representationFit minimises Σ (F(uₖ; α, β) − pₖ)² over the pool's grid
-// quantiles uₖ (all inside (0, 1)) at probabilities pₖ. The basins are
-// found on subsets of the grid, where each local fit costs a fifth or a
-// tenth as much: local fits from the moment-matched Beta (the pool's mean
-// m and variance v, α+β = m(1−m)/v − 1, feasible since a pool on [0, 1]
-// has v < m(1−m)) and from the quantile-based start of FitQuantiles; and
-// only if neither misses the subset's probabilities by at most closeFit,
-// from the cumulative fitter's grid of starts, whose best distinct basins
-// are refitted on the larger subset. Every basin within polishRatio of
-// the best is then refitted on the whole grid. It reports whether the
-// grid of starts was searched.
-func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, searched bool, err error) {
-	full := &lsq{u: u, p: up, r: make([]float64, len(u)), rh: make([]float64, len(u))}
+// quantiles uₖ (all inside (0, 1)) at probabilities pₖ. The global search
+// (fitGlobal) runs on every fifth grid point, from the moment-matched
+// Beta (the pool's mean m and variance v, α+β = m(1−m)/v − 1, feasible
+// since a pool on [0, 1] has v < m(1−m)) and the quantile-based start of
+// FitQuantiles; the fit on the whole grid is a local fit from its answer,
+// which the nineteen points of the subset place in the right basin (the
+// whole grid only sharpens a curve the subset already follows closely).
+func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, err error) {
 	coarse := subsample(u, up, searchStride)
 	starts := [][2]float64{coarse.momentStart()}
 	m := (p.Mean() - p.Lower) / p.width()
 	if v := p.Variance() / (p.width() * p.width()); v > 0 && v < m*(1-m) {
 		starts = append(starts, clampBox(logShape(m, m*(1-m)/v-1)))
 	}
-	var found []basin
-	for _, th := range starts {
-		x, f := coarse.localFit(th)
-		found = append(found, basin{x, f})
-	}
-	found = distinctBasins(found)
-	if len(found) == 0 || !coarse.acceptable(found[0].th, closeFit) {
-		searched = true
-		scan := subsample(u, up, scanStride)
-		var scanned []basin
-		for _, th := range subsample(u, up, rankStride).gridStarts(gridRestarts) {
-			x, f := scan.localFitTol(th, 0, scanRel)
-			scanned = append(scanned, basin{x, f})
-		}
-		scanned = distinctBasins(scanned)
-		for _, b := range scanned[:min(scanRefine, len(scanned))] {
-			x, f := coarse.localFit(b.th)
-			found = append(found, basin{x, f})
-		}
-		found = distinctBasins(found)
-	}
-	if len(found) == 0 {
-		return Beta{}, 0, searched, fmt.Errorf("%w: no local fit gave a number", ErrFitFailed)
-	}
-	best, bestF := found[0].th, found[0].f
-	if coarse != full {
-		bestF = math.Inf(1)
-		for _, b := range found {
-			if b.f > polishRatio*found[0].f {
-				break
-			}
-			if x, f := full.localFitTol(b.th, 0, polishRel); f < bestF {
-				best, bestF = x, f
-			}
+	// A pool close to one Beta is settled by local fits from these
+	// starts, when the best misses no subset probability by more than
+	// representationClose; otherwise the global search runs, with its
+	// branch and bound kept short (representationCells), since a Beta that
+	// far from the pool is flagged anyway.
+	var first fitResult
+	first.s = math.Inf(1)
+	for _, st := range starts {
+		if th, s := coarse.localFit(st); s < first.s {
+			first.th, first.s = th, s
 		}
 	}
-	d, err = fittedBeta(best, bestF)
-	return d, bestF, searched, err
+	coarse.sse(first.th)
+	if coarse.maxAbsResid() > representationClose {
+		coarse.cells = representationCells
+		first = coarse.fitGlobal(append(starts, first.th))
+	}
+	full := newLSQ(u, up)
+	if len(full.u) == len(coarse.u) {
+		full = coarse
+	}
+	th, _ := full.localFit(first.th)
+	sse = full.sse(th)
+	for _, t := range th {
+		if t <= logParamMin+boundTol || t >= logParamMax-boundTol {
+			return Beta{}, 0, fmt.Errorf("%w: the closest single Beta has alpha %.3g and beta %.3g, at the edge of the range Parley fits (%g to %g)",
+				ErrFitFailed, math.Exp(th[0]), math.Exp(th[1]), MinShape, MaxShape)
+		}
+	}
+	if math.IsNaN(sse) || math.IsInf(sse, 0) {
+		return Beta{}, 0, fmt.Errorf("%w: no local fit gave a number", ErrFitFailed)
+	}
+	return Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}, sse, nil
 }
 
 // PanelFit is one expert's standing on a question as the pool sees it:

@@ -12,12 +12,12 @@ import (
 // successes (one float64 per count).
 const MaxPredictiveTrials = 1_000_000
 
-// MaxUpdateTrials is the largest number of trials Posterior accepts.
-// Beyond about 1e10, gonum's inverse of the regularised incomplete beta
-// function stops being monotone in p for β of that size (found by a fuzz
-// test of EqualTailed), so intervals of such posteriors could come out
-// reversed; 1e9 keeps a margin.
-const MaxUpdateTrials = 1_000_000_000
+// MaxUpdateTrials is the largest number of trials Posterior accepts: the
+// posterior's α and β must stay within MaxShape, the accuracy envelope
+// of the Beta's CDF and quantiles, and 10⁶ trials leave every prior up to
+// 9·10⁶ room; it is also MaxPredictiveTrials, so the prior-data conflict
+// check is always available.
+const MaxUpdateTrials = 1_000_000
 
 // Posterior is the conjugate update of a Beta prior by binomial data,
 // s successes in n trials:
@@ -25,12 +25,20 @@ const MaxUpdateTrials = 1_000_000_000
 //	Beta(α, β) prior, s | θ ~ Binomial(n, θ)  ⇒  θ | s ~ Beta(α + s, β + n − s)
 //
 // (Gelman et al. 2013, "Bayesian Data Analysis", 3rd ed., §2.4). It needs
-// a valid prior and 0 ≤ s ≤ n ≤ MaxUpdateTrials.
+// a valid prior, 0 ≤ s ≤ n ≤ MaxUpdateTrials and a posterior within
+// MaxShape (RulePosteriorRange).
 func Posterior(prior Beta, successes, trials int) (Beta, error) {
 	if err := checkData(prior, successes, trials); err != nil {
 		return Beta{}, err
 	}
-	return Beta{Alpha: prior.Alpha + float64(successes), Beta: prior.Beta + float64(trials-successes)}, nil
+	post := Beta{Alpha: prior.Alpha + float64(successes), Beta: prior.Beta + float64(trials-successes)}
+	if post.Alpha > MaxShape {
+		return Beta{}, inputErr("successes", RulePosteriorRange, "posterior alpha %v", post.Alpha)
+	}
+	if post.Beta > MaxShape {
+		return Beta{}, inputErr("trials", RulePosteriorRange, "posterior beta %v", post.Beta)
+	}
+	return post, nil
 }
 
 func checkData(prior Beta, successes, trials int) error {
@@ -52,13 +60,18 @@ func checkData(prior Beta, successes, trials int) error {
 	return nil
 }
 
-// checkLevel checks a credible level: finite and strictly inside (0, 1).
+// checkLevel checks a credible level: finite, strictly inside (0, 1), and
+// leaving tails (1 − level)/2 of at least MinProb, the accuracy envelope
+// of quantiles.
 func checkLevel(level float64) error {
 	if math.IsNaN(level) || math.IsInf(level, 0) {
 		return inputErr("level", RuleFinite, "got %v", level)
 	}
 	if !(level > 0 && level < 1) {
 		return inputErr("level", RuleProbOpen, "got %v", level)
+	}
+	if (1-level)/2 < MinProb {
+		return inputErr("level", RuleProbRange, "each tail (1 - level)/2 = %v is below %v", (1-level)/2, MinProb)
 	}
 	return nil
 }

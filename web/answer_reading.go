@@ -144,7 +144,19 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 		if errors.As(err, &ie) {
 			field = answerField(ie.Field)
 		}
-		f.set(field, expertWords(q, f, err))
+		switch {
+		case errors.Is(err, elicit.ErrFitFailed):
+			// Never the fitter's own words on an expert's screen.
+			f.set("", "No distribution could be drawn through these answers. Please check them: each value above the one before, none at a bound, and not all crowded together.")
+		case ie != nil && ie.Rule == elicit.RuleFitRange && q.Format == elicit.FormatChips:
+			f.set("", "No distribution Parley can draw matches where your chips are. Please spread them over more bins.")
+		case ie != nil && ie.Rule == elicit.RuleFitRange:
+			// The rule's own words speak of alpha and beta; an expert
+			// reads what to change.
+			f.set("", "These values lie too close together, or too close to a bound, for any distribution Parley can draw to match them. Please spread them out or move them away from the bounds.")
+		default:
+			f.set(field, expertWords(q, f, err))
+		}
 		return a, fit, false
 	}
 	return a, fit, true
@@ -226,6 +238,10 @@ func expertWords(q elicit.Question, f *Form, err error) string {
 		return fmt.Sprintf("Place your %d chips: none are placed yet.", q.Chips)
 	case elicit.RuleChipsSpread:
 		return "Put chips in at least three bins: a curve needs some spread to be fitted."
+	case elicit.RuleValueNearBound:
+		return "This lies too close to " + lo + " or " + hi + " for Parley to draw a curve through it; you typed " + typed + ". Please move it a little further from the end of the range."
+	case elicit.RuleValuesTooClose:
+		return "This is so close to " + previousLabel(q, ie.Field) + " that the two cannot be told apart; you typed " + typed + ". Please spread them out."
 	}
 	// The fit's own rules (values too close together, or too close to a
 	// bound, for a curve to mean anything).

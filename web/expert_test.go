@@ -320,6 +320,10 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 			"f-confidence", "Type the confidence as a percentage: did you mean 80%?", "0.8"},
 		{"a percentage on a question that is not a proportion", g.qs, url.Values{"values[0]": {"20%"}, "values[1]": {"30"}, "values[2]": {"40"}},
 			"f-values-0", "not as percentages", "20%"},
+		// Issue 11: degenerate values are refused beside the field, before
+		// any fit, in an expert's words.
+		{"subnormal values", g.q, quantiles("4.9e-324", "1e-323", "1.5e-323"), "f-values-0", "too close to 0 or 1", "4.9e-324"},
+		{"values too close", g.q, quantiles("0.05", "0.0500000001", "0.4"), "f-values-1", "cannot be told apart", "0.0500000001"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
@@ -342,6 +346,31 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 				t.Errorf("%d revisions saved from bad input", n)
 			}
 		})
+	}
+}
+
+// TestExpertNeverSeesTheFittersWords: values that pass every rule but
+// that no Beta within the accuracy envelope matches (rare values a few
+// percent apart) are refused with 422 and a sentence for the expert, not
+// the fitter's internal text (issue 11).
+func TestExpertNeverSeesTheFittersWords(t *testing.T) {
+	g := newExpertRig(t)
+	for _, action := range []string{"/preview", "/preview?fragment=1", "/save"} {
+		resp, body := g.post(g.qpath(0, g.q)+action, quantiles("1e-9", "1.02e-9", "1.04e-9"))
+		if resp.StatusCode != http.StatusUnprocessableEntity {
+			t.Fatalf("%s: status %d, want 422", action, resp.StatusCode)
+		}
+		if !strings.Contains(body, "too close together, or too close to a bound") {
+			t.Errorf("%s: no sentence for the expert:\n%s", action, body)
+		}
+		for _, internal := range []string{"elicit:", "least-squares", "did not converge", "alpha", "envelope"} {
+			if strings.Contains(body, internal) {
+				t.Errorf("%s: the page shows %q", action, internal)
+			}
+		}
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved", n)
 	}
 }
 

@@ -173,6 +173,9 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		if err != nil {
 			return nil, err
 		}
+		if err := elicit.CheckMagnitude(field(cols[2]), x); err != nil {
+			return nil, err
+		}
 		for j := range probs {
 			if a.Quantiles[j], err = number(field(cols[3+j]), cell(3+j)); err != nil {
 				return nil, err

@@ -188,6 +188,10 @@ func TestCalibrateBadInput(t *testing.T) {
 		{"alpha too high", head + "A,s1,1,0,1,2\n", []string{"--alpha", "1.5"}, []string{"alpha", string(elicit.RuleUnitInterval)}},
 		{"alpha NaN", head + "A,s1,1,0,1,2\n", []string{"--alpha", "NaN"}, []string{"alpha"}},
 		{"no input", "", []string{"--input", ""}, []string{"input"}},
+		// Issue 11: quantiles of ±1.7e308 overflowed the question's range
+		// and were reported as "every calibration score is 0".
+		{"quantiles overflow the range", head + "A,s1,1,-1.7e308,0,1.7e308\nB,s1,1,0,1,2\n", nil, []string{"row 2", "q05", string(elicit.RuleBoundsRange)}},
+		{"realization too large", head + "A,s1,1e301,0,1,2\n", nil, []string{"row 2", "realization", string(elicit.RuleBoundsRange)}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)

@@ -57,6 +57,10 @@ type poolOutput struct {
 	SD        float64   `json:"sd"`
 	Probs     []float64 `json:"probs"`
 	Quantiles []float64 `json:"quantiles"`
+	// QuantileDetail says for each quantile whether it is unique; where
+	// the pooled CDF is flat, to within its rounding, across [low, high],
+	// the quantile is that interval's midpoint (elicit.PoolQuantile).
+	QuantileDetail []elicit.PoolQuantile `json:"quantile_detail"`
 	// Beta is null, with a warning, when no Beta within the fitter's
 	// search range represents a linear pool.
 	Beta *elicit.Beta `json:"beta"`
@@ -72,6 +76,8 @@ type betaFit struct {
 	SSE           float64     `json:"sse"`
 	MaxCDFError   float64     `json:"max_cdf_error"`
 	QuantileDiffs percentiles `json:"quantile_diffs"` // Beta's minus pool's quantiles
+	SDRatio       float64     `json:"sd_ratio"`       // Beta's sd over the pool's
+	IntervalRatio float64     `json:"interval_ratio"` // Beta's central 90% width over the pool's
 }
 
 func runPool(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
@@ -207,8 +213,16 @@ func poolResult(in poolInput) (poolOutput, error) {
 		if err != nil {
 			return poolOutput{}, err
 		}
-		if out.Quantiles, err = p.Quantiles(probs); err != nil {
+		if out.QuantileDetail, err = p.QuantileSet(probs); err != nil {
 			return poolOutput{}, err
+		}
+		for _, q := range out.QuantileDetail {
+			out.Quantiles = append(out.Quantiles, q.Value)
+			if !q.Unique {
+				out.Warnings = append(out.Warnings, fmt.Sprintf(
+					"the %g quantile is not unique: the pooled CDF equals %g, to within its rounding, everywhere from %.6g to %.6g; the midpoint %.6g is reported",
+					q.Prob, q.Prob, q.Low, q.High, q.Value))
+			}
 		}
 		out.Mean, out.SD = p.Mean(), p.SD()
 		r, err := p.BestBeta()
@@ -219,12 +233,11 @@ func poolResult(in poolInput) (poolOutput, error) {
 			return poolOutput{}, err
 		default:
 			out.Beta = &r.Dist.Beta
-			out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]}}
-			// The same 0.05 the fit of one expert is judged by.
-			if r.MaxCDFError > elicit.PoorFitThreshold {
-				out.Warnings = append(out.Warnings, fmt.Sprintf(
-					"the single Beta is far from the pool: their CDFs differ by up to %.3g; report the pool itself or agree a consensus judgement", r.MaxCDFError))
-			}
+			out.BetaFit = &betaFit{r.SSE, r.MaxCDFError, percentiles{r.QuantileDiffs[0], r.QuantileDiffs[1], r.QuantileDiffs[2]},
+				r.SDRatio, r.IntervalRatio}
+			// Flagged by the CDF distance (the 0.05 an expert's fit is
+			// judged by) and by the spread ratios.
+			out.Warnings = append(out.Warnings, r.Warnings...)
 		}
 	case "log":
 		out.Method = "log"
@@ -235,6 +248,7 @@ func poolResult(in poolInput) (poolOutput, error) {
 		out.Quantiles = make([]float64, len(probs))
 		for i, pr := range probs {
 			out.Quantiles[i] = d.Quantile(pr)
+			out.QuantileDetail = append(out.QuantileDetail, elicit.PoolQuantile{Prob: pr, Value: out.Quantiles[i], Unique: true, Low: out.Quantiles[i], High: out.Quantiles[i]})
 		}
 		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), &d.Beta, true
 	default:
@@ -278,7 +292,11 @@ func writePoolText(w io.Writer, o poolOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %.6g, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, o.Mean, o.SD)
 	for i, p := range o.Probs {
-		fmt.Fprintf(&b, "  quantile %-8g %.6g\n", p, o.Quantiles[i])
+		fmt.Fprintf(&b, "  quantile %-8g %.6g", p, o.Quantiles[i])
+		if q := o.QuantileDetail[i]; !q.Unique {
+			fmt.Fprintf(&b, " (not unique: every value from %.6g to %.6g has this probability; the midpoint is shown)", q.Low, q.High)
+		}
+		fmt.Fprintln(&b)
 	}
 	switch {
 	case o.Beta == nil:
@@ -287,8 +305,8 @@ func writePoolText(w io.Writer, o poolOutput) error {
 		fmt.Fprintf(&b, "the pool is exactly Beta(%.6g, %.6g)\n", o.Beta.Alpha, o.Beta.Beta)
 	case o.BetaFit != nil:
 		f := o.BetaFit
-		fmt.Fprintf(&b, "best single Beta(%.6g, %.6g): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%\n",
-			o.Beta.Alpha, o.Beta.Beta, f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95)
+		fmt.Fprintf(&b, "best single Beta(%.6g, %.6g): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%; its sd is %.3g and its central 90%% interval %.3g times the pool's\n",
+			o.Beta.Alpha, o.Beta.Beta, f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95, f.SDRatio, f.IntervalRatio)
 	}
 	for _, m := range o.Warnings {
 		fmt.Fprintf(&b, "warning: %s\n", m)

@@ -205,11 +205,20 @@ func (c Curve) sumComponents(xs []float64, x0, x1 float64) sampled {
 
 func evaluate(c Curve, xs []float64) sampled {
 	s := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
-	pdf := c.pdfFunc()
+	pdf, cdf := c.pdfFunc(), c.cdfFunc()
 	for k, x := range xs {
-		s.pdf[k], s.cdf[k] = pdf(x), c.cdf(x)
+		s.pdf[k], s.cdf[k] = pdf(x), cdf(x)
 	}
 	return s
+}
+
+// cdfFunc is the curve's CDF for evaluating at many points: a Beta's with
+// what its incomplete beta function shares across points computed once.
+func (c Curve) cdfFunc() func(float64) float64 {
+	if c.usesFuncs() {
+		return c.CDF
+	}
+	return c.Dist.CDFFunc()
 }
 
 // pdfFunc is the curve's density for evaluating at many points: a Beta's

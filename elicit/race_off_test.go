@@ -1,0 +1,5 @@
+//go:build !race
+
+package elicit
+
+const raceEnabled = false

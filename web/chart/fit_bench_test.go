@@ -1,0 +1,53 @@
+package chart
+
+import (
+	"io"
+	"math"
+	"syscall"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// cpuNs reports the process CPU time per iteration (getrusage), steadier
+// than wall time on a shared machine.
+func cpuNs(b *testing.B, f func()) {
+	var before, after syscall.Rusage
+	_ = syscall.Getrusage(syscall.RUSAGE_SELF, &before)
+	n := 0
+	for b.Loop() {
+		f()
+		n++
+	}
+	_ = syscall.Getrusage(syscall.RUSAGE_SELF, &after)
+	cpu := time.Duration(after.Utime.Nano()-before.Utime.Nano()) + time.Duration(after.Stime.Nano()-before.Stime.Nano())
+	b.ReportMetric(float64(cpu.Nanoseconds())/float64(n), "cpu-ns/op")
+}
+
+// BenchmarkFitPreviewPicture draws the fit preview's picture of a 5/50/95
+// judgement (invented inverter failure proportion), the case of
+// elicit's BenchmarkFit3. Each iteration nudges α in its last digits so
+// that the remembered spans, samples and paths miss and every curve is
+// sampled afresh, as for an expert's new draft. Target: no more CPU than
+// the fit itself.
+func BenchmarkFitPreviewPicture(b *testing.B) {
+	j := elicit.Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1}
+	f, err := elicit.FitQuantiles(j)
+	if err != nil {
+		b.Fatal(err)
+	}
+	v := FitView{ID: "bench", Quantity: "proportion failing in year one", Lower: 0, Upper: 1,
+		Dist: f.Dist, Percentiles: f.Percentiles}
+	for i, p := range f.Probs {
+		v.Points = append(v.Points, Point{X: f.Stated[i], P: p})
+	}
+	alpha := f.Dist.Alpha
+	cpuNs(b, func() {
+		alpha = math.Nextafter(alpha, math.Inf(1))
+		v.Dist.Alpha = alpha
+		if err := Fit(v).Render(b.Context(), io.Discard); err != nil {
+			b.Fatal(err)
+		}
+	})
+}
