@@ -32,6 +32,7 @@ type questionState struct {
 	Rows      []expertFitRow
 	Weights   elicit.Weights
 	Pool      *elicit.Pool
+	PoolQs    []elicit.PoolQuantile // the pool's 5%, 50% and 95% points
 	PoolError string
 	Rep       *elicit.Representation // the pool's single-Beta representation
 	RepError  string
@@ -138,6 +139,13 @@ func (d workshopData) state(q elicit.Question) questionState {
 	}
 	pool := pp.Pool
 	st.Pool = &pool
+	qs, err := pool.QuantileSet([]float64{0.05, 0.5, 0.95})
+	if err != nil {
+		st.PoolError = "The pool's quantiles cannot be computed: " + err.Error()
+		st.Pool = nil
+		return st
+	}
+	st.PoolQs = qs
 	rep, err := pool.BestBeta()
 	if err != nil {
 		st.RepError = "No single Beta could be fitted to the pool: " + err.Error()
