@@ -15,6 +15,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -110,7 +111,7 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		{"0.3333333333333333", "0.5", "0.6666666666666666", "0.0001", ""},
 		{"NaN", "Inf", "-Inf", "0x1p-2", ""},
 		{"1_000", "1,5", " 0.2 ", "+5", ""},
-		{"", "", "", "", strings.Repeat("r", web.MaxLongText+1)},
+		{"", "", "", "", strings.Repeat("r", input.MaxLongText+1)},
 		{"0.1", "0.2", "0.3", "5", "\x00\xff"},
 		{"20", "0", "0", "0", ""},
 		{"5", "5", "5", "5", ""},

@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -40,10 +41,10 @@ func parseAnswerNumber(name, raw string, q elicit.Question, asPercent bool) (v f
 		if !isProportion(q) {
 			return 0, false, &elicit.InputError{Field: name, Rule: rulePercentHere}
 		}
-		v, err := parseFloatField(name, rest)
+		v, err := input.Number(name, rest)
 		return v / 100, true, err
 	}
-	v, err = parseFloatField(name, s)
+	v, err = input.Number(name, s)
 	if err == nil && asPercent && isProportion(q) {
 		return v / 100, true, nil
 	}
@@ -59,7 +60,7 @@ const ruleConfidencePercent elicit.Rule = "is a percentage"
 func parseConfidence(raw string) (float64, error) {
 	s := strings.TrimSpace(raw)
 	rest, hadSign := strings.CutSuffix(s, "%")
-	v, err := parseFloatField("confidence", rest)
+	v, err := input.Number("confidence", rest)
 	if err != nil {
 		return 0, err
 	}
@@ -108,7 +109,7 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 			if strings.TrimSpace(f.Value(name)) == "" {
 				continue // an empty bin holds no chips
 			}
-			n, err := parseIntField(name, f.Value(name), 0, elicit.MaxChips)
+			n, err := input.Whole(name, f.Value(name), 0, elicit.MaxChips)
 			if err != nil {
 				f.set(name, expertWords(q, f, err))
 			}
@@ -203,11 +204,11 @@ func expertWords(q elicit.Question, f *Form, err error) string {
 	switch ie.Rule {
 	case elicit.RuleRequired:
 		return "Please fill this in."
-	case RuleNumberSyntax, elicit.RuleFinite:
+	case input.RuleNumberSyntax, elicit.RuleFinite:
 		if isProportion(q) {
-			return "“" + clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
+			return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
 		}
-		return "“" + clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
+		return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
 	case rulePercentHere:
 		return "This question's values run " + between + ", not as percentages: please type the value without %."
 	case ruleConfidencePercent:

@@ -11,6 +11,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // An answer sheet is a CSV (RFC 4180) of judgements sent to the
@@ -211,7 +212,7 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 	// Each cell by the form's own number rules, the answer by elicit's.
 	var a elicit.Answer
 	num := func(c string) (float64, error) {
-		v, err := parseFloatField(c, cell(c))
+		v, err := input.Number(c, cell(c))
 		return v, underColumn(line, c, err)
 	}
 	var err error
@@ -233,7 +234,7 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 			if v == "" {
 				continue // an empty bin holds no chips
 			}
-			if a.Counts[i], err = parseIntField(c, v, 0, elicit.MaxChips); err != nil {
+			if a.Counts[i], err = input.Whole(c, v, 0, elicit.MaxChips); err != nil {
 				return row, underColumn(line, c, err)
 			}
 		}
@@ -245,7 +246,7 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 			}
 		}
 	}
-	if row.Reason, err = parseTextField("reason", cell("reason"), MaxLongText, false); err != nil {
+	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}
 	fit, err := q.Fit(a)

@@ -14,6 +14,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // sheetRig is a workshop of every answer format for the sheet tests (an
@@ -155,7 +156,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", RuleSheetColumn},
 		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", RuleSheetMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
-		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", RuleNumberSyntax},
+		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", input.RuleNumberSyntax},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetRepeat},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, RuleSheetHeader},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", RuleSheetQuest},
@@ -170,7 +171,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 			}
 			_, err := ReadAnswerSheet(strings.NewReader(c.sheet), g.qs, g.experts)
 			var ie *elicit.InputError
-			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != RuleNumberSyntax && ie.Rule != c.rule) {
+			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != input.RuleNumberSyntax && ie.Rule != c.rule) {
 				t.Fatalf("got %v, want %s: %s", err, c.field, c.rule)
 			}
 			// Through the web upload too: 422, the message, nothing saved.

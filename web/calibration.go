@@ -11,6 +11,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // calibrationRoutes are a workshop's calibration pages: true values, the
@@ -216,7 +217,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	// A revealed value is visible to the experts, so changing it is
 	// recorded as a reveal, with its reason.
 	reveal := f.Checked("reveal") || q.Revealed
-	reason := f.Text("reason", MaxLongText, reveal)
+	reason := f.Text("reason", input.MaxLongText, reveal)
 	if f.OK() {
 		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)
 		switch {
@@ -248,7 +249,7 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsPerformance), string(elicit.WeightsCustom)))
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	alpha := alphaOf(f)
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {

@@ -17,6 +17,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -506,7 +507,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	a, fit, ok := readAnswer(sc.question, f)
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.

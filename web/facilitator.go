@@ -7,6 +7,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // facilitatorRoutes are the facilitator's pages; routes() mounts them
@@ -135,10 +136,10 @@ func (s *Server) createWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	ws := elicit.Workshop{
-		Title:    f.Text("title", MaxShortText, true),
-		Purpose:  f.Text("purpose", MaxLongText, false),
-		Decision: f.Text("decision", MaxLongText, false),
-		Notes:    f.Text("notes", MaxLongText, false),
+		Title:    f.Text("title", input.MaxShortText, true),
+		Purpose:  f.Text("purpose", input.MaxLongText, false),
+		Decision: f.Text("decision", input.MaxLongText, false),
+		Notes:    f.Text("notes", input.MaxLongText, false),
 	}
 	if !f.OK() {
 		s.showWorkshopList(w, r, http.StatusUnprocessableEntity, f)

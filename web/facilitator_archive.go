@@ -7,6 +7,7 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // archiveWorkshop archives a workshop (its round closes; nothing can be
@@ -18,7 +19,7 @@ func (s *Server) archiveWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "archive", "restore")
-	reason := f.Text("archive_reason", MaxLongText, true)
+	reason := f.Text("archive_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetArchived(r.Context(), ws.ID, action == "archive", reason); err != nil {
 			switch {
@@ -75,7 +76,7 @@ func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	if !f.Checked("confirm") {
 		f.set("confirm", "tick to confirm that the workshop, its questions and its panel are to be deleted")
 	}

@@ -6,6 +6,7 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // The facilitator enters or revises an expert's judgement on their
@@ -192,7 +193,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	a, fit, channel, ok := readEntry(sc.q, f)
 	if sc.q.Frozen() {
 		s.entryAgain(w, r, sc, f, http.StatusConflict, "The true value of this question has been shown, so its answers are final and nothing was saved.", nil)

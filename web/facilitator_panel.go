@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -305,7 +306,7 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "withhold", "release")
-	why := f.Text("withhold_reason", MaxLongText, true)
+	why := f.Text("withhold_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetReasonWithheld(r.Context(), revID, action == "withhold", why); err != nil {
 			switch {

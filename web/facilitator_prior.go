@@ -6,6 +6,7 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // agreePrior records the prior the panel agreed for a question: either the
@@ -26,7 +27,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	source := elicit.PriorSource(f.Choice("source", "", string(elicit.PriorFromPool), string(elicit.PriorFromConsensus)))
-	rationale := f.Text("rationale", MaxLongText, true)
+	rationale := f.Text("rationale", input.MaxLongText, true)
 	p := elicit.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
 	switch source {
 	case elicit.PriorFromPool:

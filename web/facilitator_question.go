@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // probPresets are the sets of cumulative probabilities a quantile
@@ -104,9 +105,9 @@ func (s *Server) addQuestion(w http.ResponseWriter, r *http.Request) {
 // are read.
 func parseQuestion(f *Form) elicit.Question {
 	q := elicit.Question{
-		Wording:  f.Text("wording", MaxLongText, true),
-		Quantity: f.Text("quantity", MaxShortText, true),
-		Units:    f.Text("units", MaxShortText, false),
+		Wording:  f.Text("wording", input.MaxLongText, true),
+		Quantity: f.Text("quantity", input.MaxShortText, true),
+		Units:    f.Text("units", input.MaxShortText, false),
 		Lower:    f.Float("lower"),
 		Upper:    f.Float("upper"),
 		Format: elicit.AnswerFormat(f.Choice("format", string(elicit.FormatQuantiles),
@@ -222,14 +223,14 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 	var next elicit.Question
 	if ed.Answers > 0 {
 		next = ed.Question
-		next.Wording = f.Text("wording", MaxLongText, true)
-		next.Quantity = f.Text("quantity", MaxShortText, true)
-		next.Units = f.Text("units", MaxShortText, false)
+		next.Wording = f.Text("wording", input.MaxLongText, true)
+		next.Quantity = f.Text("quantity", input.MaxShortText, true)
+		next.Units = f.Text("units", input.MaxShortText, false)
 	} else {
 		next = parseQuestion(f)
 	}
 	next.ID, next.WorkshopID = ed.Question.ID, ws.ID
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.EditQuestion(r.Context(), next, reason); err != nil {
 			switch {
@@ -263,7 +264,7 @@ func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "retire", "restore")
-	reason := f.Text("retire_reason", MaxLongText, true)
+	reason := f.Text("retire_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetQuestionRetired(r.Context(), q.ID, action == "retire", reason); err != nil {
 			switch {

@@ -7,6 +7,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // issuedLink's entry in Server.issued: a private link just issued, kept
@@ -43,9 +44,9 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 	f := newForm(r.PostForm)
 	e := elicit.Expert{
 		WorkshopID:  ws.ID,
-		Name:        f.Text("name", MaxShortText, true),
-		Affiliation: f.Text("affiliation", MaxShortText, false),
-		Expertise:   f.Text("expertise", MaxLongText, false),
+		Name:        f.Text("name", input.MaxShortText, true),
+		Affiliation: f.Text("affiliation", input.MaxShortText, false),
+		Expertise:   f.Text("expertise", input.MaxLongText, false),
 	}
 	if f.OK() && !f.Checked("allow_duplicate") {
 		others, err := s.store.Experts(r.Context(), ws.ID)
@@ -155,7 +156,7 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	if !f.OK() || f.Value("confirm") != "yes" {
 		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
 		if err != nil {
@@ -193,7 +194,7 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RosterForm: f})
 		return

@@ -4,6 +4,7 @@ import (
 	"net/http"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // changeRound closes the open round, opens the next one, or reopens the
@@ -22,7 +23,7 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	opening := action == "open"
-	reason := f.Text("reason", MaxLongText, opening)
+	reason := f.Text("reason", input.MaxLongText, opening)
 	round := ws.Round
 	if opening {
 		round = ws.Round + 1
@@ -46,7 +47,7 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, f *Form) {
-	reason := f.Text("reopen_reason", MaxLongText, true)
+	reason := f.Text("reopen_reason", input.MaxLongText, true)
 	if f.OK() {
 		f.Fail(ws.CheckReopen(), map[string]string{"action": "reopen_reason"})
 	}

@@ -9,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // seeded is a harness signed in over a database holding the invented demo.
@@ -133,7 +134,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		}
 		return v
 	}
-	long := strings.Repeat("x", MaxShortText+1)
+	long := strings.Repeat("x", input.MaxShortText+1)
 	tests := []struct {
 		name  string
 		path  string

@@ -5,6 +5,7 @@ import (
 	"net/http"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // setWeights records the pool weights the facilitator chose, with the
@@ -22,7 +23,7 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsCustom)))
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	wt := elicit.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
 	if scheme == elicit.WeightsCustom {
 		experts, err := s.store.Experts(r.Context(), ws.ID)

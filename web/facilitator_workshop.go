@@ -4,6 +4,7 @@ import (
 	"net/http"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // workshopView is the facilitator's overview of one workshop: its
@@ -168,10 +169,10 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	upd := ws
-	upd.Title = f.Text("title", MaxShortText, true)
-	upd.Purpose = f.Text("purpose", MaxLongText, false)
-	upd.Decision = f.Text("decision", MaxLongText, false)
-	upd.Notes = f.Text("notes", MaxLongText, false)
+	upd.Title = f.Text("title", input.MaxShortText, true)
+	upd.Purpose = f.Text("purpose", input.MaxLongText, false)
+	upd.Decision = f.Text("decision", input.MaxLongText, false)
+	upd.Notes = f.Text("notes", input.MaxLongText, false)
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{EditForm: f})
 		return

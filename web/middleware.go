@@ -7,6 +7,8 @@ import (
 	"regexp"
 	"sort"
 	"strings"
+
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // MaxBodyBytes is the largest request body Parley reads. Every form in
@@ -118,7 +120,7 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 	if len(names) > 0 {
 		sort.Strings(names)
 		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d. Nothing was saved.",
-			clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
+			input.Clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
 		return false
 	}
 	return true
