@@ -11,9 +11,9 @@ import templruntime "github.com/a-h/templ/runtime"
 
 import (
 	"fmt"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 
 	"github.com/parley-elicit/parley/web/chart"
@@ -830,7 +830,7 @@ func expertAnswerForm(v expertQuestionView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			for _, c := range elicit.Channels {
+			for _, c := range workshop.Channels {
 				templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 80, "<option value=\"")
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err

@@ -6,8 +6,8 @@ import (
 
 	"github.com/go-chi/chi/v5"
 
-	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // archiveWorkshop archives a workshop (its round closes; nothing can be
@@ -41,7 +41,7 @@ func (s *Server) archiveWorkshop(w http.ResponseWriter, r *http.Request) {
 
 // deleteView is the page that confirms deleting a workshop.
 type deleteView struct {
-	Workshop  elicit.Workshop
+	Workshop  workshop.Workshop
 	Questions int
 	Experts   int
 	Answers   int
@@ -57,7 +57,7 @@ func (s *Server) deleteWorkshopForm(w http.ResponseWriter, r *http.Request) {
 	s.showDelete(w, r, http.StatusOK, ws, newForm(nil))
 }
 
-func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, f *Form) {
+func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, ws workshop.Workshop, f *Form) {
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
@@ -69,7 +69,7 @@ func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, 
 
 // deleteWorkshop deletes a workshop that has no answers and no agreed
 // priors, once the facilitator has ticked the confirmation and given a
-// reason; the store refuses any other (elicit.RuleHasAnswers).
+// reason; the store refuses any other (workshop.RuleHasAnswers).
 func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok || !parseForm(w, r) {

@@ -10,13 +10,13 @@ import "github.com/a-h/templ"
 import templruntime "github.com/a-h/templ/runtime"
 
 import (
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 )
 
-func roundLabel(w elicit.Workshop) string {
+func roundLabel(w workshop.Workshop) string {
 	state := "open"
 	if !w.Open {
 		state = "closed"
@@ -24,7 +24,7 @@ func roundLabel(w elicit.Workshop) string {
 	return "Round " + strconv.Itoa(w.Round) + " (" + state + ")"
 }
 
-func workshopTable(ws []elicit.Workshop) templ.Component {
+func workshopTable(ws []workshop.Workshop) templ.Component {
 	return templruntime.GeneratedTemplate(func(templ_7745c5c3_Input templruntime.GeneratedComponentInput) (templ_7745c5c3_Err error) {
 		templ_7745c5c3_W, ctx := templ_7745c5c3_Input.Writer, templ_7745c5c3_Input.Context
 		if templ_7745c5c3_CtxErr := ctx.Err(); templ_7745c5c3_CtxErr != nil {

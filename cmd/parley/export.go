@@ -9,7 +9,7 @@ import (
 	"os"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 func init() {
@@ -19,7 +19,7 @@ func init() {
 func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("export", stderr)
 	dbPath := fs.String("db", "", "database `file`")
-	workshop := fs.Int64("workshop", 0, "workshop `ID`")
+	workshopID := fs.Int64("workshop", 0, "workshop `ID`")
 	format := fs.String("format", "json", "json or csv")
 	question := fs.Int64("question", 0, "export only this question `ID`")
 	out := fs.String("out", "", "write to `file` instead of standard output")
@@ -29,7 +29,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if *format != "json" && *format != "csv" {
 		return fail(stderr, "export", badInput("format", "must be json or csv, got %q", *format))
 	}
-	if *workshop <= 0 {
+	if *workshopID <= 0 {
 		return fail(stderr, "export", badInput("workshop", "a workshop ID (a whole number above 0) is required"))
 	}
 	db, err := openExisting(*dbPath)
@@ -37,16 +37,16 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return fail(stderr, "export", err)
 	}
 	defer db.Close()
-	rec, err := db.Record(context.Background(), *workshop, time.Now())
-	if errors.Is(err, elicit.ErrNotFound) {
-		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshop, *dbPath))
+	rec, err := db.Record(context.Background(), *workshopID, time.Now())
+	if errors.Is(err, workshop.ErrNotFound) {
+		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshopID, *dbPath))
 	}
 	if err != nil {
 		return fail(stderr, "export", err)
 	}
 	if *question != 0 {
 		if rec, err = rec.ForQuestion(*question); err != nil {
-			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshop))
+			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshopID))
 		}
 	}
 	var buf bytes.Buffer

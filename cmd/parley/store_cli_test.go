@@ -14,6 +14,8 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -28,25 +30,25 @@ func cliWorkshop(t *testing.T) (path string, workshopID, questionID int64) {
 	}
 	defer db.Close()
 	ctx := context.Background()
-	w := elicit.Workshop{Title: "Hatchery survival (invented)", Invented: true}
+	w := workshop.Workshop{Title: "Hatchery survival (invented)", Invented: true}
 	check(t, db.CreateWorkshop(ctx, &w))
-	var qs []elicit.Question
+	var qs []workshop.Question
 	for _, wording := range []string{"Share of fry surviving a season?", "Share of tagged fish returning?"} {
-		q := elicit.Question{WorkshopID: w.ID, Wording: wording, Quantity: "survival share", Lower: 0, Upper: 1,
-			Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+		q := workshop.Question{WorkshopID: w.ID, Wording: wording, Quantity: "survival share", Lower: 0, Upper: 1,
+			Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
 		check(t, db.AddQuestion(ctx, &q))
 		qs = append(qs, q)
 	}
 	for i, name := range []string{"Ines", "Jomo"} {
-		e := elicit.Expert{WorkshopID: w.ID, Name: name}
+		e := workshop.Expert{WorkshopID: w.ID, Name: name}
 		check(t, db.AddExpert(ctx, &e, []byte("token-"+name)))
 		for _, q := range qs[:2-i] {
-			r := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID,
-				Answer: elicit.Answer{Values: []float64{0.1, 0.2 + 0.05*float64(i), 0.4}}}
+			r := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID,
+				Answer: workshop.Answer{Values: []float64{0.1, 0.2 + 0.05*float64(i), 0.4}}}
 			check(t, db.SaveRevision(ctx, &r))
 		}
 	}
-	check(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: qs[0].ID, Source: elicit.PriorFromPool,
+	check(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 14}), Rationale: "the pool, unchanged", RoundOpen: true}))
 	return path, w.ID, qs[0].ID
 }
@@ -77,9 +79,9 @@ func TestExportJSON(t *testing.T) {
 	if err := sch.Validate(doc); err != nil {
 		t.Fatalf("export does not match the schema: %v", err)
 	}
-	var rec elicit.Record
+	var rec record.Record
 	check(t, json.Unmarshal([]byte(out), &rec))
-	if len(rec.Revisions) != 3 || rec.Caution != elicit.Caution || rec.Questions[0].AgreedPrior == nil {
+	if len(rec.Revisions) != 3 || rec.Caution != record.Caution || rec.Questions[0].AgreedPrior == nil {
 		t.Fatalf("record: %d revisions, caution %q, prior %v", len(rec.Revisions), rec.Caution, rec.Questions[0].AgreedPrior)
 	}
 
@@ -92,7 +94,7 @@ func TestExportJSON(t *testing.T) {
 	}
 	b, err := os.ReadFile(file)
 	check(t, err)
-	var one elicit.Record
+	var one record.Record
 	check(t, json.Unmarshal(b, &one))
 	if len(one.Questions) != 1 || one.Questions[0].ID != qid || len(one.Revisions) != 2 {
 		t.Fatalf("question export: %d questions, %d revisions", len(one.Questions), len(one.Revisions))

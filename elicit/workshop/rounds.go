@@ -1,10 +1,14 @@
-package elicit
+package workshop
 
-import "sort"
+import (
+	"sort"
+
+	"github.com/parley-elicit/parley/elicit"
+)
 
 // RuleRoundSequence is the rule for Delphi rounds: the open round is
 // closed before the next one, numbered one higher, is opened.
-const RuleRoundSequence Rule = "rounds run in sequence: close the open round, then open the next"
+const RuleRoundSequence elicit.Rule = "rounds run in sequence: close the open round, then open the next"
 
 // CheckRoundChange reports whether w may move to round with the given open
 // state: closing needs the current round open and round equal to it;

@@ -1,11 +1,14 @@
-package elicit
+package workshop
 
 import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // CalibrationSet is the classical model's input drawn from one workshop's
@@ -29,7 +32,7 @@ type CalibrationSet struct {
 	// Experts are the active experts, in roster order.
 	Experts []Expert
 
-	Assessments []SeedAssessment
+	Assessments []elicit.SeedAssessment
 	// RevisionIDs[i] is the revision whose answer Assessments[i] scores.
 	RevisionIDs  []int64
 	Realisations map[string]float64
@@ -124,7 +127,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		case q.Format != FormatQuantiles:
 			set.skip(q, "asked as "+formatName(q.Format)+"; the classical model scores answers given as quantiles")
 			continue
-		case !sameFloats(q.Probs, set.Probs):
+		case !slices.Equal(q.Probs, set.Probs):
 			set.skip(q, "asked at "+probsText(q.Probs)+"; the scored questions ask at "+probsText(set.Probs))
 			continue
 		case q.TrueValue == nil || (revealedOnly && !q.Revealed):
@@ -140,7 +143,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		set.Bounds[key] = [2]float64{q.Lower, q.Upper}
 		for _, e := range set.Answered[q.ID] {
 			rv := latest[[2]int64{q.ID, e.ID}]
-			set.Assessments = append(set.Assessments, SeedAssessment{
+			set.Assessments = append(set.Assessments, elicit.SeedAssessment{
 				Expert: SeedExpertKey(e.ID), Question: key,
 				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
 			})
@@ -166,7 +169,7 @@ func commonProbs(qs []Question) []float64 {
 		}
 		n := 0
 		for _, o := range qs[i:] {
-			if o.Calibration && !o.Retired && o.Format == FormatQuantiles && sameFloats(o.Probs, q.Probs) {
+			if o.Calibration && !o.Retired && o.Format == FormatQuantiles && slices.Equal(o.Probs, q.Probs) {
 				n++
 			}
 		}
@@ -215,10 +218,10 @@ type Performance struct {
 	// Answers states which answers were scored (AnswersRule).
 	Answers string              `json:"answers"`
 	Experts []PerformanceExpert `json:"experts"`
-	Pooled  PooledScore         `json:"pooled"`
+	Pooled  elicit.PooledScore  `json:"pooled"`
 	// Warnings say where the weighting rests on weak ground
 	// (CalibrationWarnings).
-	Warnings []Warning `json:"warnings"`
+	Warnings []elicit.Warning `json:"warnings"`
 	// InForce reports whether the workshop's current pool weights are
 	// these performance weights.
 	InForce bool `json:"in_force"`
@@ -248,10 +251,10 @@ type PerformanceExpert struct {
 // optimised) and returns the scores by expert. The set must be Ready.
 func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	if !set.Ready() {
-		return Performance{}, inputErr("calibration_questions", RuleRequired,
+		return Performance{}, inputErr("calibration_questions", elicit.RuleRequired,
 			"scoring needs answered calibration questions, each with its true value")
 	}
-	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha, Overshoot: DefaultOvershoot})
+	sc, err := elicit.ClassicalModel(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, Overshoot: elicit.DefaultOvershoot})
 	if err != nil {
 		return Performance{}, err
 	}
@@ -266,7 +269,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	for i, q := range set.Questions {
 		p.Questions[i] = q.ID
 	}
-	byKey := map[string]ExpertScore{}
+	byKey := map[string]elicit.ExpertScore{}
 	for _, es := range sc.Experts {
 		byKey[es.Expert] = es
 	}
@@ -349,6 +352,19 @@ func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 	return opt, nil
 }
 
+// Percentiles are a distribution's 5th, 50th and 95th percentiles.
+type Percentiles struct {
+	P05 float64 `json:"p05"`
+	P50 float64 `json:"p50"`
+	P95 float64 `json:"p95"`
+}
+
+// ExpertWeight is one expert's normalised weight in a pool.
+type ExpertWeight struct {
+	ExpertID int64   `json:"expert_id"`
+	Weight   float64 `json:"weight"`
+}
+
 // PoolSummary is a linear opinion pool's weights, mean, SD and 5/50/95
 // percentiles.
 type PoolSummary struct {
@@ -374,7 +390,7 @@ type PoolComparison struct {
 // question.
 type targetFits struct {
 	q     Question
-	dists []ScaledBeta
+	dists []elicit.ScaledBeta
 	ids   []int64
 }
 
@@ -490,18 +506,18 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 		k := SeedExpertKey(e.ID)
 		labels[k], ids[k] = e.Name, e.ID
 	}
-	var targets []RobustnessTarget
+	var targets []elicit.RobustnessTarget
 	for _, t := range fitTargets(questions, experts, revisions) {
 		if len(t.dists) == 0 {
 			continue
 		}
-		rt := RobustnessTarget{Question: SeedQuestionKey(t.q.ID), Fits: map[string]ScaledBeta{}}
+		rt := elicit.RobustnessTarget{Question: SeedQuestionKey(t.q.ID), Fits: map[string]elicit.ScaledBeta{}}
 		for i, id := range t.ids {
 			rt.Fits[SeedExpertKey(id)] = t.dists[i]
 		}
 		targets = append(targets, rt)
 	}
-	rep, err := LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha}, targets)
+	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha}, targets)
 	if err != nil {
 		return Robustness{}, err
 	}
@@ -538,10 +554,10 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	return rb, nil
 }
 
-func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {
-	pool, err := LinearPool(dists, weights)
-	var ie *InputError
-	if errors.As(err, &ie) && ie.Rule == RuleWeightsNotAllZero {
+func summarisePool(dists []elicit.ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {
+	pool, err := elicit.LinearPool(dists, weights)
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && ie.Rule == elicit.RuleWeightsNotAllZero {
 		return nil, "every expert who answered this question has performance weight 0"
 	}
 	if err != nil {
@@ -552,48 +568,9 @@ func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSum
 		return nil, err.Error()
 	}
 	s := &PoolSummary{Mean: pool.Mean(), SD: pool.SD(), Percentiles: Percentiles{qs[0], qs[1], qs[2]}}
-	shares := Shares(weights)
+	shares := elicit.Shares(weights)
 	for i, id := range ids {
 		s.Weights = append(s.Weights, ExpertWeight{ExpertID: id, Weight: shares[i]})
 	}
 	return s, ""
-}
-
-// recordPerformance is the record's performance section: scored only on
-// revealed true values, with the cut-off of the weights in force. note
-// says why there is no section.
-func recordPerformance(src RecordSource) (*Performance, string) {
-	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
-	switch {
-	case len(set.Questions) == 0 && len(set.Pending) == 0:
-		if len(set.Skipped) == 0 {
-			return nil, ""
-		}
-		return nil, "no calibration question can be scored: " + skippedText(set.Skipped)
-	case len(set.Pending) > 0:
-		return nil, fmt.Sprintf("scores are shown once every calibration question's true value is revealed (%d not yet)", len(set.Pending))
-	}
-	p, err := PerformanceInForce(set, src.Weights)
-	if err != nil {
-		return nil, "the classical model could not score the panel: " + err.Error()
-	}
-	var alpha *float64
-	if p.AlphaRule == AlphaFixed {
-		alpha = &p.Alpha
-	}
-	if rb, err := PerformanceRobustness(set, src.Questions, src.Experts, src.Revisions, alpha); err == nil {
-		p.Robustness = &rb
-	}
-	return &p, ""
-}
-
-func skippedText(s []SkippedQuestion) string {
-	out := ""
-	for i, q := range s {
-		if i > 0 {
-			out += "; "
-		}
-		out += fmt.Sprintf("Q%d %s", q.Question.Position, q.Reason)
-	}
-	return out
 }

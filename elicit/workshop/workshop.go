@@ -1,8 +1,9 @@
-package elicit
+package workshop
 
 import (
-	"math"
 	"time"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // AnswerFormat is how experts answer a question.
@@ -154,7 +155,7 @@ const (
 var Channels = []Channel{ChannelInPerson, ChannelPhone, ChannelPaperForm, ChannelMessage, ChannelFile}
 
 // RuleProvenance is the rule for who entered a revision and how.
-const RuleProvenance Rule = "a revision is entered by the expert (no channel) or by the facilitator (with one of the channels)"
+const RuleProvenance elicit.Rule = "a revision is entered by the expert (no channel) or by the facilitator (with one of the channels)"
 
 // CheckProvenance checks a revision's EnteredBy and Channel: the expert's
 // own entries carry no channel; the facilitator's carry a known one.
@@ -265,37 +266,6 @@ func (w Weights) Of(expertID int64) float64 {
 	return w.ByExpert[expertID]
 }
 
-// Shares turns unnormalised pool weights into each one's share of the
-// pool, w_i / Σ_j w_j, summing to 1. It divides by the largest weight
-// before summing, so weights near the largest float64 (four of 1e308)
-// give their true shares instead of an overflowed sum and shares of 0.
-// Every share shown or recorded (the facilitator's panel, the decision
-// log, the export) and the pool's own normalisation come from here.
-// It returns nil when a weight is negative, NaN or infinite, or no weight
-// is above zero: such weights have no shares.
-func Shares(raw []float64) []float64 {
-	var largest float64
-	for _, x := range raw {
-		if math.IsNaN(x) || math.IsInf(x, 0) || x < 0 {
-			return nil
-		}
-		largest = math.Max(largest, x)
-	}
-	if largest == 0 {
-		return nil
-	}
-	out := make([]float64, len(raw))
-	var sum float64
-	for i, x := range raw {
-		out[i] = x / largest
-		sum += out[i]
-	}
-	for i := range out {
-		out[i] /= sum
-	}
-	return out
-}
-
 // PriorSource says how an agreed prior was reached.
 type PriorSource string
 
@@ -310,13 +280,13 @@ const (
 // AgreedPrior is the prior the panel settled on for a question. Every
 // agreement is kept; the latest is the current one.
 type AgreedPrior struct {
-	ID         int64       `json:"id"`
-	QuestionID int64       `json:"question_id"`
-	Source     PriorSource `json:"source"`
-	Dist       ScaledBeta  `json:"dist"`
-	Consensus  *Answer     `json:"consensus,omitempty"`
-	Rationale  string      `json:"rationale"`
-	Round      int         `json:"round"`
+	ID         int64             `json:"id"`
+	QuestionID int64             `json:"question_id"`
+	Source     PriorSource       `json:"source"`
+	Dist       elicit.ScaledBeta `json:"dist"`
+	Consensus  *Answer           `json:"consensus,omitempty"`
+	Rationale  string            `json:"rationale"`
+	Round      int               `json:"round"`
 	// RoundOpen is set when the prior was agreed while its round was
 	// still open, after the facilitator confirmed it: answers could still
 	// change after the agreement.
@@ -327,6 +297,21 @@ type AgreedPrior struct {
 	// weights) or the prior predates this link.
 	WeightSetID int64     `json:"weight_set_id,omitempty"`
 	At          time.Time `json:"at"`
+}
+
+// Snapshot is everything stored about one workshop, read at one moment:
+// what its record is built from and what its pages are drawn from.
+type Snapshot struct {
+	Workshop  Workshop
+	Questions []Question
+	Experts   []Expert
+	Revisions []Revision // oldest first
+	Weights   Weights    // the current weights
+	// WeightHistory is every weight set applied, oldest first; the last
+	// is Weights.
+	WeightHistory []Weights
+	Priors        []AgreedPrior // oldest first
+	Events        []Event       // oldest first
 }
 
 // DeletedWorkshop is what is left of a workshop deleted before anyone

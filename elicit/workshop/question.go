@@ -1,16 +1,18 @@
-package elicit
+package workshop
 
 import (
 	"fmt"
 	"math"
 	"strconv"
-	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // Rules of question definitions and answers.
 const (
-	RuleQuantileFormat Rule = "format does not give quantile judgements"
-	RuleChipsExceeded  Rule = "more chips placed than the question allows"
+	RuleQuantileFormat elicit.Rule = "format does not give quantile judgements"
+	RuleChipsExceeded  elicit.Rule = "more chips placed than the question allows"
 )
 
 // Probability sets a facilitator can ask for in FormatQuantiles. They are
@@ -26,73 +28,75 @@ var (
 	ProbsTertiles = []float64{1.0 / 3, 0.5, 2.0 / 3}
 )
 
-// Limits on a question's definition.
-const (
-	MaxWordingLen  = 2000 // bytes
-	MaxQuantityLen = 200
-	MaxUnitsLen    = 100
-	MaxChips       = 1000
-)
+// MaxChips is the most chips a chips question may ask an expert to place.
+const MaxChips = 1000
 
 // Validate checks a question's definition and returns the first broken
-// rule as an *InputError: wording and quantity present and not too long;
+// rule as an *InputError: the wording (at most input.MaxLongText
+// characters), quantity and units (input.MaxShortText) by input.CheckText,
+// wording and quantity present;
 // bounds finite and ordered; a known format; for FormatQuantiles,
 // MinPairs to MaxPairs probabilities passing CheckProbs; for FormatChips,
 // MinBins to MaxBins bins whose edges strictly increase from Lower to
 // Upper and between MinChipBins and MaxChips chips; a true value, if set,
 // finite and strictly inside (Lower, Upper).
 func (q Question) Validate() error {
+	if err := q.checkText(); err != nil {
+		return err
+	}
+	if err := elicit.CheckBounds(q.Lower, q.Upper); err != nil {
+		return err
+	}
+	switch q.Format {
+	case FormatQuantiles:
+		if n := len(q.Probs); n < elicit.MinPairs || n > elicit.MaxPairs {
+			return inputErr("probs", elicit.RuleCount, "need %d to %d probabilities, got %d", elicit.MinPairs, elicit.MaxPairs, n)
+		}
+		if err := elicit.CheckProbs("probs", q.Probs); err != nil {
+			return err
+		}
+	case FormatInterval:
+	case FormatChips:
+		if err := elicit.CheckEdges("bin_edges", q.BinEdges); err != nil {
+			return err
+		}
+		last := len(q.BinEdges) - 1
+		if q.BinEdges[0] != q.Lower {
+			return inputErr("bin_edges[0]", elicit.RuleEdgesSpanBounds, "first edge %v, lower %v", q.BinEdges[0], q.Lower)
+		}
+		if q.BinEdges[last] != q.Upper {
+			return inputErr(fmt.Sprintf("bin_edges[%d]", last), elicit.RuleEdgesSpanBounds, "last edge %v, upper %v", q.BinEdges[last], q.Upper)
+		}
+		if q.Chips < elicit.MinChipBins || q.Chips > MaxChips {
+			return inputErr("chips", elicit.RuleCountRange, "need %d to %d chips, got %d", elicit.MinChipBins, MaxChips, q.Chips)
+		}
+	default:
+		return inputErr("format", elicit.RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
+	}
+	if t := q.TrueValue; t != nil {
+		if math.IsNaN(*t) || math.IsInf(*t, 0) {
+			return inputErr("true_value", elicit.RuleFinite, "got %v", *t)
+		}
+		if !(*t > q.Lower && *t < q.Upper) {
+			return inputErr("true_value", elicit.RuleValueInBounds, "%v not inside (%v, %v)", *t, q.Lower, q.Upper)
+		}
+	}
+	return nil
+}
+
+// checkText checks the question's text by the rules of its form.
+func (q Question) checkText() error {
 	for _, t := range []struct {
 		field, v string
 		max      int
 		required bool
 	}{
-		{"wording", q.Wording, MaxWordingLen, true},
-		{"quantity", q.Quantity, MaxQuantityLen, true},
-		{"units", q.Units, MaxUnitsLen, false},
+		{"wording", q.Wording, input.MaxLongText, true},
+		{"quantity", q.Quantity, input.MaxShortText, true},
+		{"units", q.Units, input.MaxShortText, false},
 	} {
-		if t.required && strings.TrimSpace(t.v) == "" {
-			return inputErr(t.field, RuleRequired, "")
-		}
-		if len(t.v) > t.max {
-			return inputErr(t.field, RuleTooLong, "%d bytes, at most %d", len(t.v), t.max)
-		}
-	}
-	if err := checkBounds(q.Lower, q.Upper); err != nil {
-		return err
-	}
-	switch q.Format {
-	case FormatQuantiles:
-		if n := len(q.Probs); n < MinPairs || n > MaxPairs {
-			return inputErr("probs", RuleCount, "need %d to %d probabilities, got %d", MinPairs, MaxPairs, n)
-		}
-		if err := CheckProbs("probs", q.Probs); err != nil {
+		if err := input.CheckText(t.field, t.v, t.max, t.required); err != nil {
 			return err
-		}
-	case FormatInterval:
-	case FormatChips:
-		if err := checkEdges("bin_edges", q.BinEdges); err != nil {
-			return err
-		}
-		last := len(q.BinEdges) - 1
-		if q.BinEdges[0] != q.Lower {
-			return inputErr("bin_edges[0]", RuleEdgesSpanBounds, "first edge %v, lower %v", q.BinEdges[0], q.Lower)
-		}
-		if q.BinEdges[last] != q.Upper {
-			return inputErr(fmt.Sprintf("bin_edges[%d]", last), RuleEdgesSpanBounds, "last edge %v, upper %v", q.BinEdges[last], q.Upper)
-		}
-		if q.Chips < MinChipBins || q.Chips > MaxChips {
-			return inputErr("chips", RuleCountRange, "need %d to %d chips, got %d", MinChipBins, MaxChips, q.Chips)
-		}
-	default:
-		return inputErr("format", RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
-	}
-	if t := q.TrueValue; t != nil {
-		if math.IsNaN(*t) || math.IsInf(*t, 0) {
-			return inputErr("true_value", RuleFinite, "got %v", *t)
-		}
-		if !(*t > q.Lower && *t < q.Upper) {
-			return inputErr("true_value", RuleValueInBounds, "%v not inside (%v, %v)", *t, q.Lower, q.Upper)
 		}
 	}
 	return nil
@@ -102,16 +106,16 @@ func (q Question) Validate() error {
 // states: FormatQuantiles gives P(X ≤ Values[i]) = Probs[i]; FormatInterval
 // goes through FourValue. FormatChips is not a quantile judgement and is
 // refused with RuleQuantileFormat; use Fit.
-func (q Question) Judgement(a Answer) (Judgement, error) {
+func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
 	if err := q.Validate(); err != nil {
-		return Judgement{}, err
+		return elicit.Judgement{}, err
 	}
 	switch q.Format {
 	case FormatQuantiles:
 		if len(a.Values) != len(q.Probs) {
-			return Judgement{}, inputErr("values", RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+			return elicit.Judgement{}, inputErr("values", elicit.RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
 		}
-		j := Judgement{
+		j := elicit.Judgement{
 			Probs:  append([]float64(nil), q.Probs...),
 			Values: append([]float64(nil), a.Values...),
 			Lower:  q.Lower,
@@ -119,9 +123,9 @@ func (q Question) Judgement(a Answer) (Judgement, error) {
 		}
 		return j, j.Validate()
 	case FormatInterval:
-		return FourValue(a.Lowest, a.Highest, a.Best, a.Confidence, q.Lower, q.Upper)
+		return elicit.FourValue(a.Lowest, a.Highest, a.Best, a.Confidence, q.Lower, q.Upper)
 	}
-	return Judgement{}, inputErr("format", RuleQuantileFormat, "%q", q.Format)
+	return elicit.Judgement{}, inputErr("format", RuleQuantileFormat, "%q", q.Format)
 }
 
 // Fit turns an expert's answer, in the question's format, into a fitted
@@ -129,18 +133,18 @@ func (q Question) Judgement(a Answer) (Judgement, error) {
 // and FitQuantiles, chips through FitChips (at most q.Chips chips may be
 // placed). The first of q.Problems(a) is refused before anything else. Errors name the answer's field, e.g. "values[1]", "lowest",
 // "confidence" or "counts[2]".
-func (q Question) Fit(a Answer) (Fit, error) {
+func (q Question) Fit(a Answer) (elicit.Fit, error) {
 	if ps := q.Problems(a); len(ps) > 0 {
-		return Fit{}, ps[0]
+		return elicit.Fit{}, ps[0]
 	}
 	if q.Format == FormatChips {
-		return FitChips(q.BinEdges, a.Counts)
+		return elicit.FitChips(q.BinEdges, a.Counts)
 	}
 	j, err := q.Judgement(a)
 	if err != nil {
-		return Fit{}, err
+		return elicit.Fit{}, err
 	}
-	return FitQuantiles(j)
+	return elicit.FitQuantiles(j)
 }
 
 // Parley's defaults for a chips question, when the facilitator gives no

@@ -1,9 +1,11 @@
-package elicit
+package workshop
 
 import (
 	"errors"
 	"slices"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 func TestCheckRoundChange(t *testing.T) {
@@ -31,7 +33,7 @@ func TestCheckRoundChange(t *testing.T) {
 				}
 				return
 			}
-			var ie *InputError
+			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != "round" || ie.Rule != RuleRoundSequence {
 				t.Fatalf("got %v, want an InputError on round breaking %q", err, RuleRoundSequence)
 			}

@@ -1,0 +1,357 @@
+package record
+
+import (
+	"errors"
+	"fmt"
+	"strconv"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// Version is the layout version of the export document, written as
+// its "parley_record" key.
+const Version = 1
+
+// Caution is the note every record and report carries about what an
+// elicited prior is.
+const Caution = "An elicited prior is documented expert judgement, not data. " +
+	"Review it, test how sensitive your conclusions are to it, and where it feeds clinical, " +
+	"safety or environmental decisions, follow your field's own guidance and its regulators, " +
+	"which take precedence over this record."
+
+// Record is the export document of one workshop: everything a project lead
+// or a reviewer needs to see how the prior was reached. Derived numbers
+// (fits, pools) are recomputed from the judgements whenever a record is
+// built; an import keeps only the judgements and decisions.
+type Record struct {
+	Format    int               `json:"parley_record"`
+	Generated time.Time         `json:"generated_at"`
+	Caution   string            `json:"caution"`
+	Workshop  workshop.Workshop `json:"workshop"`
+	Experts   []workshop.Expert `json:"experts"`
+	Questions []Question        `json:"questions"`
+	// Revisions is every saved answer, oldest first, with its fit.
+	Revisions []Revision `json:"revisions"`
+	// Weights is the set in force; WeightHistory is every set applied,
+	// oldest first, each with what it was made from, so every pool the
+	// record shows (the current pools and each agreed prior's, through
+	// its weight_set_id) can be reproduced. WeightHistory is empty when
+	// no set was ever applied, and in records made before Parley kept it.
+	Weights       workshop.Weights   `json:"weights"`
+	WeightHistory []workshop.Weights `json:"weight_history"`
+	Events        []workshop.Event   `json:"events"`
+	// Performance is the scoring of the panel on the calibration questions
+	// by Cooke's classical model (record_scores.go), present once every
+	// calibration question's true value is revealed; PerformanceNote says
+	// why it is absent when there are calibration questions.
+	Performance     *workshop.Performance `json:"performance,omitempty"`
+	PerformanceNote string                `json:"performance_note,omitempty"`
+}
+
+// Question is a question with its current state: each expert's
+// latest fit, the pool of those fits, and the agreed priors. A
+// calibration question's true value is present only once revealed.
+type Question struct {
+	workshop.Question
+	CurrentFits []CurrentFit `json:"current_fits"`
+	Pool        *Pool        `json:"pool,omitempty"`
+	PoolError   string       `json:"pool_error,omitempty"`
+	// AgreedPrior is the current agreed prior, with snippets for
+	// modelling languages; PriorHistory is every agreement, oldest first.
+	AgreedPrior  *Prior                 `json:"agreed_prior,omitempty"`
+	PriorHistory []workshop.AgreedPrior `json:"prior_history"`
+}
+
+// CurrentFit is an expert's latest revision on a question and its fit.
+type CurrentFit struct {
+	ExpertID   int64  `json:"expert_id"`
+	RevisionID int64  `json:"revision_id"`
+	Round      int    `json:"round"`
+	Fit        *Fit   `json:"fit,omitempty"`
+	FitError   string `json:"fit_error,omitempty"`
+}
+
+// Revision is one saved answer with the Beta fitted to it. FitError
+// is set instead of Fit when the answer cannot be fitted.
+type Revision struct {
+	workshop.Revision
+	Fit      *Fit   `json:"fit,omitempty"`
+	FitError string `json:"fit_error,omitempty"`
+}
+
+// Fit is a fit as the record shows it: the Beta on the question's
+// scale, how well it meets the stated probabilities, its 5/50/95
+// percentiles and any warnings.
+type Fit struct {
+	Dist         elicit.ScaledBeta    `json:"dist"`
+	SSE          float64              `json:"sse"`
+	MaxProbError float64              `json:"max_prob_error"`
+	Probs        []float64            `json:"probs"`
+	Stated       []float64            `json:"stated"`
+	Fitted       []float64            `json:"fitted"`
+	Percentiles  workshop.Percentiles `json:"percentiles"`
+	Warnings     []Warning            `json:"warnings"`
+}
+
+// Warning is one warning about a fit.
+type Warning struct {
+	Code    string `json:"code"`
+	Message string `json:"message"`
+}
+
+// Pool is the linear opinion pool of the experts' current fits.
+type Pool struct {
+	Weights     []workshop.ExpertWeight `json:"weights"` // normalised, summing to 1
+	Mean        float64                 `json:"mean"`
+	SD          float64                 `json:"sd"`
+	Percentiles workshop.Percentiles    `json:"percentiles"`
+	// BestBeta is the single Beta that represents the pool (Pool.BestBeta);
+	// BestBetaError says why there is none.
+	BestBeta      *BestBeta `json:"best_beta,omitempty"`
+	BestBetaError string    `json:"best_beta_error,omitempty"`
+}
+
+// BestBeta is the single Beta that represents a pool and how far it
+// is from the pool: the least-squares objective on the probability scale,
+// the largest CDF gap, and its 5/50/95 percentiles minus the pool's.
+type BestBeta struct {
+	Dist          elicit.ScaledBeta    `json:"dist"`
+	SSE           float64              `json:"sse"`
+	MaxCDFError   float64              `json:"max_cdf_error"`
+	QuantileDiffs workshop.Percentiles `json:"quantile_diffs"`
+}
+
+// Prior is the current agreed prior with one-line snippets of it in
+// modelling languages.
+type Prior struct {
+	workshop.AgreedPrior
+	Snippets []Snippet `json:"snippets"`
+}
+
+// Snippet is a prior written in one modelling language's notation.
+type Snippet struct {
+	Language string `json:"language"`
+	Code     string `json:"code"`
+}
+
+// Build builds the export document at time now. Every revision is
+// fitted with its question's Fit; each question's pool is the linear
+// opinion pool (LinearPool) of the current fits of the experts who are not
+// revoked, weighted by the current weights (equal weights give each expert
+// 1; other schemes give an expert without a weight 0). A true value is
+// left out until the facilitator has revealed it.
+func Build(src workshop.Snapshot, now time.Time) (Record, error) {
+	r := Record{
+		Format:        Version,
+		Generated:     now.UTC(),
+		Caution:       Caution,
+		Workshop:      src.Workshop,
+		Experts:       append([]workshop.Expert{}, src.Experts...),
+		Questions:     []Question{},
+		Revisions:     []Revision{},
+		Weights:       src.Weights,
+		WeightHistory: []workshop.Weights{},
+		Events:        append([]workshop.Event{}, src.Events...),
+	}
+	questions := map[int64]workshop.Question{}
+	for _, q := range src.Questions {
+		if q.WorkshopID != src.Workshop.ID {
+			return Record{}, fmt.Errorf("elicit: record: question %d belongs to workshop %d, not %d",
+				q.ID, q.WorkshopID, src.Workshop.ID)
+		}
+		questions[q.ID] = q
+	}
+	// A weight set's basis shows a true value only once it is revealed,
+	// as the question does.
+	withheld := func(w workshop.Weights) workshop.Weights {
+		if w.Basis != nil {
+			b := w.Basis.Withheld(questions)
+			w.Basis = &b
+		}
+		return w
+	}
+	r.Weights = withheld(r.Weights)
+	for _, w := range src.WeightHistory {
+		r.WeightHistory = append(r.WeightHistory, withheld(w))
+	}
+	latest := map[[2]int64]int{} // (question, expert) → index in r.Revisions
+	for _, rv := range src.Revisions {
+		q, ok := questions[rv.QuestionID]
+		if !ok {
+			return Record{}, fmt.Errorf("elicit: record: revision %d: question %d: %w", rv.ID, rv.QuestionID, workshop.ErrNotFound)
+		}
+		rr := Revision{Revision: rv}
+		if rr.EnteredBy == "" {
+			rr.EnteredBy = workshop.ByExpert // records older than the field were all the experts' own
+		}
+		if f, err := q.Fit(rv.Answer); err != nil {
+			rr.FitError = err.Error()
+		} else {
+			rr.Fit = FitOf(f)
+		}
+		latest[[2]int64{rv.QuestionID, rv.ExpertID}] = len(r.Revisions)
+		r.Revisions = append(r.Revisions, rr)
+	}
+	for _, q := range src.Questions {
+		rq := Question{Question: q, CurrentFits: []CurrentFit{}, PriorHistory: []workshop.AgreedPrior{}}
+		if !q.Revealed {
+			rq.TrueValue = nil
+		}
+		var panel []workshop.PanelFit
+		for _, e := range src.Experts {
+			i, ok := latest[[2]int64{q.ID, e.ID}]
+			if !ok {
+				continue
+			}
+			rv := r.Revisions[i]
+			rq.CurrentFits = append(rq.CurrentFits, CurrentFit{
+				ExpertID: e.ID, RevisionID: rv.ID, Round: rv.Round, Fit: rv.Fit, FitError: rv.FitError,
+			})
+			m := workshop.PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
+			if rv.Fit != nil {
+				d := rv.Fit.Dist
+				m.Dist = &d
+			}
+			panel = append(panel, m)
+		}
+		switch pp, err := workshop.PoolPanel(panel, src.Weights); {
+		case errors.Is(err, workshop.ErrNoFits):
+		case err != nil:
+			rq.PoolError = err.Error()
+		default:
+			rq.Pool = recordPool(pp)
+		}
+		for _, ap := range src.Priors {
+			if ap.QuestionID == q.ID {
+				rq.PriorHistory = append(rq.PriorHistory, ap)
+			}
+		}
+		if n := len(rq.PriorHistory); n > 0 {
+			cur := rq.PriorHistory[n-1]
+			rq.AgreedPrior = &Prior{AgreedPrior: cur, Snippets: PriorSnippets(cur.Dist)}
+		}
+		r.Questions = append(r.Questions, rq)
+	}
+	r.Performance, r.PerformanceNote = recordPerformance(src)
+	return r, nil
+}
+
+// recordPool is a panel's pool as the record writes it.
+func recordPool(pp workshop.PanelPool) *Pool {
+	pool := pp.Pool
+	rp := &Pool{
+		Weights:     make([]workshop.ExpertWeight, len(pp.Experts)),
+		Mean:        pool.Mean(),
+		SD:          pool.SD(),
+		Percentiles: workshop.Percentiles{P05: pool.Quantile(0.05), P50: pool.Quantile(0.5), P95: pool.Quantile(0.95)},
+	}
+	if best, err := pool.BestBeta(); err != nil {
+		rp.BestBetaError = err.Error()
+	} else {
+		d := best.QuantileDiffs
+		rp.BestBeta = &BestBeta{Dist: best.Dist, SSE: best.SSE, MaxCDFError: best.MaxCDFError,
+			QuantileDiffs: workshop.Percentiles{P05: d[0], P50: d[1], P95: d[2]}}
+	}
+	for i, id := range pp.Experts {
+		rp.Weights[i] = workshop.ExpertWeight{ExpertID: id, Weight: pp.Weights[i]}
+	}
+	return rp
+}
+
+// PriorSnippets writes d as Stan, R, PyMC and JAGS write a Beta prior on a
+// parameter p. A Beta on [Lower, Upper] other than [0, 1] is written for
+// the unit-scale parameter, with the rescaling alongside.
+func PriorSnippets(d elicit.ScaledBeta) []Snippet {
+	a, b := num(d.Alpha), num(d.Beta.Beta)
+	unit := d.Lower == 0 && d.Upper == 1
+	name, scale := "p", ""
+	if !unit {
+		name = "p_unit"
+		scale = fmt.Sprintf("p = %s + %s * p_unit", num(d.Lower), num(d.Upper-d.Lower))
+	}
+	with := func(code, comment string) string {
+		if unit {
+			return code
+		}
+		return code + "  " + comment + " " + scale
+	}
+	return []Snippet{
+		{"Stan", with(fmt.Sprintf("%s ~ beta(%s, %s);", name, a, b), "//")},
+		{"R", with(fmt.Sprintf("dbeta(%s, %s, %s)", name, a, b), "#")},
+		{"PyMC", with(fmt.Sprintf("pm.Beta(%q, alpha=%s, beta=%s)", name, a, b), "#")},
+		{"JAGS", with(fmt.Sprintf("%s ~ dbeta(%s, %s)", name, a, b), "#")},
+	}
+}
+
+// num writes a parameter with six significant digits, enough to
+// reproduce every printed percentile.
+func num(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+
+// FitOf converts a fit to the record's form.
+func FitOf(f elicit.Fit) *Fit {
+	rf := &Fit{
+		Dist:         f.Dist,
+		SSE:          f.SSE,
+		MaxProbError: f.MaxProbError,
+		Probs:        f.Probs,
+		Stated:       f.Stated,
+		Fitted:       f.Fitted,
+		Percentiles:  workshop.Percentiles{P05: f.Percentiles[0], P50: f.Percentiles[1], P95: f.Percentiles[2]},
+		Warnings:     []Warning{},
+	}
+	for _, w := range f.Warnings {
+		rf.Warnings = append(rf.Warnings, Warning{Code: string(w.Code), Message: w.Message})
+	}
+	return rf
+}
+
+// ForQuestion narrows the record to one question: its revisions, its
+// events and the workshop-wide events. The panel and weights stay whole,
+// and so does the evidence behind any performance weights (the
+// calibration questions their bases scored or left out, and the
+// revisions they scored), so the narrowed record still reproduces the
+// question's pools.
+func (r Record) ForQuestion(id int64) (Record, error) {
+	out := r
+	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
+	found := false
+	for _, q := range r.Questions {
+		found = found || q.ID == id
+	}
+	if !found {
+		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, workshop.ErrNotFound)
+	}
+	for _, w := range r.WeightHistory {
+		if w.Basis == nil {
+			continue
+		}
+		for _, q := range w.Basis.Questions {
+			keepQ[q.QuestionID] = true
+		}
+		for _, q := range w.Basis.Skipped {
+			keepQ[q.ID] = true
+		}
+		for _, a := range w.Basis.CalibrationAnswers {
+			keepR[a.RevisionID] = true
+		}
+	}
+	for _, q := range r.Questions {
+		if keepQ[q.ID] {
+			out.Questions = append(out.Questions, q)
+		}
+	}
+	for _, rv := range r.Revisions {
+		if rv.QuestionID == id || keepR[rv.ID] {
+			out.Revisions = append(out.Revisions, rv)
+		}
+	}
+	for _, e := range r.Events {
+		if e.QuestionID == 0 || e.QuestionID == id {
+			out.Events = append(out.Events, e)
+		}
+	}
+	return out, nil
+}
