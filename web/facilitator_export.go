@@ -3,7 +3,6 @@ package web
 import (
 	"bytes"
 	"context"
-	"encoding/json"
 	"fmt"
 	"net/http"
 
@@ -84,9 +83,7 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 			ctype = "text/csv; charset=utf-8"
 			err = rec.WriteCSV(&buf)
 		} else {
-			enc := json.NewEncoder(&buf)
-			enc.SetIndent("", "  ")
-			err = enc.Encode(rec)
+			err = rec.WriteJSON(&buf)
 		}
 		if err != nil {
 			s.fail(w, r, err)

@@ -138,7 +138,7 @@ func parseQuestion(f *Form) workshop.Question {
 		} else {
 			q.BinEdges = f.FloatList("bin_edges")
 		}
-		q.Chips = f.Int("chips", 1, 1000)
+		q.Chips = f.Int("chips", 1, workshop.MaxChips)
 	}
 	if f.Checked("calibration") {
 		q.Calibration = true

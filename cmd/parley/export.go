@@ -3,7 +3,6 @@ package main
 import (
 	"bytes"
 	"context"
-	"encoding/json"
 	"errors"
 	"io"
 	"os"
@@ -53,9 +52,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if *format == "csv" {
 		err = rec.WriteCSV(&buf)
 	} else {
-		enc := json.NewEncoder(&buf)
-		enc.SetIndent("", "  ")
-		err = enc.Encode(rec)
+		err = rec.WriteJSON(&buf)
 	}
 	if err != nil {
 		return fail(stderr, "export", err)

@@ -228,3 +228,62 @@ func TestImportCommand(t *testing.T) {
 		}
 	}
 }
+
+// parley import refuses what encoding/json alone would take (control
+// characters, duplicate keys, keys in another letter case) and numbers
+// outside their range, each with exit status 2 and one line naming the
+// path into the document; it creates no database file and adds nothing
+// to an existing one.
+func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	b, err := os.ReadFile(file)
+	check(t, err)
+	good := string(b)
+	existing := filepath.Join(t.TempDir(), "existing.db")
+	if code, _, errs := run("import", "--db", existing, "--in", file); code != exitOK {
+		t.Fatalf("import of the good record: %s", errs)
+	}
+	for _, tt := range []struct{ name, old, new, path string }{
+		{"ESC in the title", `"title": "Hatchery`, `"title": "\u001b[2JHatchery`, "workshop.title"},
+		{"NUL in a name", `"name": "Ines"`, `"name": "In\u0000es"`, "experts[0].name"},
+		{"BEL in a rationale", `"rationale": "the pool`, `"rationale": "\u0007the pool`, "questions[0].agreed_prior.rationale"},
+		{"duplicate key", `"name": "Jomo"`, `"name": "Jomo", "name": "Mallory"`, "experts[1].name"},
+		{"key in another case", `"title": "Hatchery`, `"TITLE": "Hatchery`, "workshop.TITLE"},
+		{"round out of range", `"round": 1,`, `"round": 101,`, "workshop.round"},
+		{"round that overflows", `"round": 1,`, `"round": 9223372036854775807,`, "workshop.round"},
+		{"id beyond 2^53 - 1", `"id": 1,`, `"id": 9007199254740993,`, "workshop.id"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			if !strings.Contains(good, tt.old) {
+				t.Fatalf("the export has no %q", tt.old)
+			}
+			dir := t.TempDir()
+			bad := filepath.Join(dir, "bad.json")
+			check(t, os.WriteFile(bad, []byte(strings.Replace(good, tt.old, tt.new, 1)), 0o644))
+			fresh := filepath.Join(dir, "fresh.db")
+			code, out, errs := run("import", "--db", fresh, "--in", bad)
+			if code != exitBadInput || out != "" || strings.Count(errs, "\n") != 1 || !strings.Contains(errs, ": "+tt.path+": ") {
+				t.Errorf("exit %d, stdout %q, stderr %q; want 2 and one line naming %s", code, out, errs, tt.path)
+			}
+			if strings.ContainsAny(errs, "\x00\x07\x1b") {
+				t.Errorf("the message carries a control character: %q", errs)
+			}
+			if entries, _ := os.ReadDir(dir); len(entries) != 1 { // bad.json alone
+				t.Errorf("a refused import left files: %v", entries)
+			}
+			if code, _, _ := run("import", "--db", existing, "--in", bad); code != exitBadInput {
+				t.Errorf("into an existing database: exit %d, want 2", code)
+			}
+			db, err := store.Open(existing)
+			check(t, err)
+			defer db.Close()
+			if ws, _ := db.Workshops(context.Background()); len(ws) != 1 {
+				t.Errorf("%d workshops after refused imports, want the 1 imported before", len(ws))
+			}
+		})
+	}
+}

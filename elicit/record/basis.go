@@ -6,6 +6,7 @@ import (
 	"slices"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -36,7 +37,7 @@ func checkBasis(p string, b workshop.WeightBasis, wt workshop.Weights, r Record,
 	if err := elicit.CheckProbs(p+".probs", b.Probs); err != nil {
 		return err
 	}
-	if err := checkText(p+".answers", b.Answers, false, maxText); err != nil {
+	if err := input.CheckText(p+".answers", b.Answers, input.MaxLongText, false); err != nil {
 		return err
 	}
 	scored := map[int64]bool{}
@@ -94,6 +95,9 @@ func checkBasis(p string, b workshop.WeightBasis, wt workshop.Weights, r Record,
 		if _, ok := questions[s.ID]; !ok {
 			return inputErr(fmt.Sprintf("%s.skipped[%d].question_id", p, i), elicit.RuleUnknown, "no question %d in the record", s.ID)
 		}
+		if err := input.CheckText(fmt.Sprintf("%s.skipped[%d].reason", p, i), s.Reason, input.MaxLongText, false); err != nil {
+			return err
+		}
 	}
 	total := 0.0
 	for _, v := range wt.ByExpert {
@@ -103,6 +107,9 @@ func checkBasis(p string, b workshop.WeightBasis, wt workshop.Weights, r Record,
 		f := fmt.Sprintf("%s.experts[%d]", p, i)
 		if !experts[e.ExpertID] {
 			return inputErr(f+".expert_id", elicit.RuleUnknown, "no expert %d in the record", e.ExpertID)
+		}
+		if err := input.CheckText(f+".name", e.Name, input.MaxShortText, false); err != nil {
+			return err
 		}
 		for _, x := range []struct {
 			name string
@@ -121,7 +128,7 @@ func checkBasis(p string, b workshop.WeightBasis, wt workshop.Weights, r Record,
 		}
 	}
 	for i, w := range b.Warnings {
-		if err := checkText(fmt.Sprintf("%s.warnings[%d].message", p, i), w.Message, true, maxText); err != nil {
+		if err := input.CheckText(fmt.Sprintf("%s.warnings[%d].message", p, i), w.Message, input.MaxLongText, true); err != nil {
 			return err
 		}
 	}

@@ -1,8 +1,10 @@
 package record
 
 import (
+	"encoding/json"
 	"errors"
 	"fmt"
+	"io"
 	"strconv"
 	"time"
 
@@ -354,4 +356,13 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 		}
 	}
 	return out, nil
+}
+
+// WriteJSON writes the record as one JSON document indented by two
+// spaces, as `parley export` and the facilitator's download give it. It
+// is the one JSON writer of records.
+func (r Record) WriteJSON(w io.Writer) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(r)
 }

@@ -277,8 +277,8 @@ func TestValidateRecord(t *testing.T) {
 	}{
 		{"format", func(r *Record) { r.Format = 2 }, "parley_record", elicit.RuleUnknown},
 		{"title", func(r *Record) { r.Workshop.Title = " " }, "workshop.title", elicit.RuleRequired},
-		{"long notes", func(r *Record) { r.Workshop.Notes = strings.Repeat("x", maxText+1) }, "workshop.notes", input.RuleTooLong},
-		{"round", func(r *Record) { r.Workshop.Round = 0 }, "workshop.round", elicit.RulePositive},
+		{"long notes", func(r *Record) { r.Workshop.Notes = strings.Repeat("x", input.MaxLongText+1) }, "workshop.notes", input.RuleTooLong},
+		{"round", func(r *Record) { r.Workshop.Round = 0 }, "workshop.round", elicit.RuleCountRange},
 		{"expert name", func(r *Record) { r.Experts[1].Name = "" }, "experts[1].name", elicit.RuleRequired},
 		{"duplicate expert", func(r *Record) { r.Experts[1].ID = 21 }, "experts[1].id", elicit.RuleUnknown},
 		{"question bounds", func(r *Record) { r.Questions[0].Upper = -1 }, "questions[0].lower", elicit.RuleBoundsOrder},
@@ -326,7 +326,7 @@ func TestParseRecord(t *testing.T) {
 		rule             elicit.Rule
 	}{
 		{"not JSON", "{", "record", RuleJSON},
-		{"unknown key", strings.Replace(string(good), `"caution"`, `"cautions"`, 1), "record", RuleJSON},
+		{"unknown key", strings.Replace(string(good), `"caution"`, `"cautions"`, 1), "cautions", RuleJSON},
 		{"wrong type", strings.Replace(string(good), `"parley_record":1`, `"parley_record":"1"`, 1), "parley_record", RuleJSON},
 		{"trailing data", string(good) + "{}", "record", RuleJSON},
 		{"bad answer", strings.Replace(string(good), `"values":[0.05,0.15,0.35]`, `"values":[0.05,0.15,0.15]`, 1),

@@ -4,22 +4,19 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-// Limits on a record's free text, checked on import.
-const (
-	maxTitle = 200
-	maxText  = 20000
-)
-
 // Validate checks a record as an import would receive it: the format
 // marker, every field of every entity, and that every reference points at
-// an entity of the record. Answers and consensus judgements are re-checked
+// an entity of the record. Every text passes the rules of the form it was
+// typed in (package input: valid UTF-8, no control characters but
+// newline, carriage return and tab, the same limits in characters); every
+// id is from 1 to input.MaxID; the workshop's round is at most
+// workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
 // by fitting them. Derived numbers (fits, pools, snippets) are not trusted
 // and not checked: an import drops them. The first broken rule is
 // returned as an *InputError whose Field is the path into the document,
@@ -41,14 +38,8 @@ func (r Record) Validate() error {
 		if e.WorkshopID != w.ID {
 			return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", e.WorkshopID, w.ID)
 		}
-		if err := checkText(p+".name", e.Name, true, maxTitle); err != nil {
-			return err
-		}
-		if err := checkText(p+".affiliation", e.Affiliation, false, maxTitle); err != nil {
-			return err
-		}
-		if err := checkText(p+".expertise", e.Expertise, false, maxText); err != nil {
-			return err
+		if err := e.CheckText(); err != nil {
+			return under(p, err)
 		}
 		if e.Created.IsZero() {
 			return inputErr(p+".created", elicit.RuleRequired, "")
@@ -101,7 +92,7 @@ func (r Record) Validate() error {
 		if rv.At.IsZero() {
 			return inputErr(p+".at", elicit.RuleRequired, "")
 		}
-		if err := checkText(p+".reason", rv.Reason, false, maxText); err != nil {
+		if err := input.CheckText(p+".reason", rv.Reason, input.MaxLongText, false); err != nil {
 			return err
 		}
 		if err := rv.CheckProvenance(); err != nil {
@@ -133,10 +124,10 @@ func (r Record) Validate() error {
 		if e.At.IsZero() {
 			return inputErr(p+".at", elicit.RuleRequired, "")
 		}
-		if err := checkText(p+".reason", e.Reason, false, maxText); err != nil {
+		if err := input.CheckText(p+".reason", e.Reason, input.MaxLongText, false); err != nil {
 			return err
 		}
-		if err := checkText(p+".detail", e.Detail, false, maxText); err != nil {
+		if err := input.CheckText(p+".detail", e.Detail, input.MaxDetail, false); err != nil {
 			return err
 		}
 	}
@@ -144,21 +135,14 @@ func (r Record) Validate() error {
 }
 
 func checkWorkshop(w workshop.Workshop) error {
-	if w.ID <= 0 {
-		return inputErr("workshop.id", elicit.RulePositive, "got %d", w.ID)
-	}
-	if err := checkText("workshop.title", w.Title, true, maxTitle); err != nil {
+	if err := input.CheckID("workshop.id", w.ID); err != nil {
 		return err
 	}
-	for _, f := range []struct{ name, v string }{
-		{"workshop.purpose", w.Purpose}, {"workshop.decision", w.Decision}, {"workshop.notes", w.Notes},
-	} {
-		if err := checkText(f.name, f.v, false, maxText); err != nil {
-			return err
-		}
+	if err := w.CheckText(); err != nil {
+		return under("workshop", err)
 	}
-	if w.Round < 1 {
-		return inputErr("workshop.round", elicit.RulePositive, "got %d", w.Round)
+	if w.Round < 1 || w.Round > workshop.MaxRounds {
+		return inputErr("workshop.round", elicit.RuleCountRange, "round %d; a workshop has rounds 1 to %d", w.Round, workshop.MaxRounds)
 	}
 	if w.Created.IsZero() {
 		return inputErr("workshop.created", elicit.RuleRequired, "")
@@ -167,14 +151,14 @@ func checkWorkshop(w workshop.Workshop) error {
 }
 
 func checkQuestion(p string, q workshop.Question) error {
-	if q.Position < 1 {
-		return inputErr(p+".position", elicit.RulePositive, "got %d", q.Position)
+	if err := input.CheckID(p+".position", int64(q.Position)); err != nil {
+		return err
 	}
 	if q.TrueValue != nil && !q.Calibration {
 		return inputErr(p+".true_value", elicit.RuleUnknown, "only a calibration question has a true value")
 	}
-	if q.RevealedThrough < 0 {
-		return inputErr(p+".revealed_through", elicit.RuleNonNegative, "got %d", q.RevealedThrough)
+	if err := checkOptionalID(p+".revealed_through", q.RevealedThrough); err != nil {
+		return err
 	}
 	if (q.RevealedAt != nil || q.RevealedThrough > 0) && !q.Frozen() {
 		return inputErr(p+".revealed_at", elicit.RuleUnknown, "only a calibration question whose true value is revealed has a reveal")
@@ -183,8 +167,11 @@ func checkQuestion(p string, q workshop.Question) error {
 }
 
 func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w workshop.Workshop) error {
-	if ap.ID <= 0 {
-		return inputErr(p+".id", elicit.RulePositive, "got %d", ap.ID)
+	if err := input.CheckID(p+".id", ap.ID); err != nil {
+		return err
+	}
+	if err := checkOptionalID(p+".weight_set_id", ap.WeightSetID); err != nil {
+		return err
 	}
 	if ap.QuestionID != q.ID {
 		return inputErr(p+".question_id", elicit.RuleUnknown, "%d is not the question's id %d", ap.QuestionID, q.ID)
@@ -202,7 +189,7 @@ func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w worksh
 			return under(p+".consensus", err)
 		}
 	}
-	if err := checkText(p+".rationale", ap.Rationale, false, maxText); err != nil {
+	if err := input.CheckText(p+".rationale", ap.Rationale, input.MaxLongText, false); err != nil {
 		return err
 	}
 	if err := checkRound(p+".round", ap.Round, w); err != nil {
@@ -263,8 +250,8 @@ func (r Record) checkWeightHistory(experts map[int64]bool, questions map[int64]w
 }
 
 func checkRecordWeights(p string, wt workshop.Weights, w workshop.Workshop, experts map[int64]bool) error {
-	if wt.ID < 0 {
-		return inputErr(p+".id", elicit.RuleNonNegative, "got %d", wt.ID)
+	if err := checkOptionalID(p+".id", wt.ID); err != nil {
+		return err
 	}
 	if wt.WorkshopID != w.ID {
 		return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", wt.WorkshopID, w.ID)
@@ -297,7 +284,7 @@ func checkRecordWeights(p string, wt workshop.Weights, w workshop.Workshop, expe
 	if wt.Scheme != workshop.WeightsEqual && total == 0 {
 		return inputErr(p+".by_expert", elicit.RuleWeightsNotAllZero, "")
 	}
-	return checkText(p+".reason", wt.Reason, false, maxText)
+	return input.CheckText(p+".reason", wt.Reason, input.MaxLongText, false)
 }
 
 func checkRound(field string, round int, w workshop.Workshop) error {
@@ -308,8 +295,8 @@ func checkRound(field string, round int, w workshop.Workshop) error {
 }
 
 func checkID(field string, id int64, seen map[int64]bool) error {
-	if id <= 0 {
-		return inputErr(field, elicit.RulePositive, "got %d", id)
+	if err := input.CheckID(field, id); err != nil {
+		return err
 	}
 	if seen[id] {
 		return inputErr(field, elicit.RuleUnknown, "id %d appears twice", id)
@@ -317,14 +304,15 @@ func checkID(field string, id int64, seen map[int64]bool) error {
 	return nil
 }
 
-func checkText(field, s string, required bool, max int) error {
-	if required && strings.TrimSpace(s) == "" {
-		return inputErr(field, elicit.RuleRequired, "")
+// checkOptionalID checks an id that may be 0 for none: 0 to input.MaxID.
+func checkOptionalID(field string, id int64) error {
+	if id == 0 {
+		return nil
 	}
-	if len(s) > max {
-		return inputErr(field, input.RuleTooLong, "%d bytes, at most %d", len(s), max)
+	if id < 0 {
+		return inputErr(field, elicit.RuleNonNegative, "got %d", id)
 	}
-	return nil
+	return input.CheckID(field, id)
 }
 
 func knownEvent(k workshop.EventKind) bool {

@@ -86,20 +86,11 @@ func (q Question) Validate() error {
 
 // checkText checks the question's text by the rules of its form.
 func (q Question) checkText() error {
-	for _, t := range []struct {
-		field, v string
-		max      int
-		required bool
-	}{
+	return checkTexts([]textField{
 		{"wording", q.Wording, input.MaxLongText, true},
 		{"quantity", q.Quantity, input.MaxShortText, true},
 		{"units", q.Units, input.MaxShortText, false},
-	} {
-		if err := input.CheckText(t.field, t.v, t.max, t.required); err != nil {
-			return err
-		}
-	}
-	return nil
+	})
 }
 
 // Judgement turns an answer in a quantile format into the judgement it

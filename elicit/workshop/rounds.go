@@ -10,11 +10,19 @@ import (
 // closed before the next one, numbered one higher, is opened.
 const RuleRoundSequence elicit.Rule = "rounds run in sequence: close the open round, then open the next"
 
+// MaxRounds is the most Delphi rounds a workshop may run. Delphi studies
+// settle in two to four rounds (common practice, no source); the limit
+// keeps a round number far from overflow, in the store and in a record.
+const MaxRounds = 100
+
 // CheckRoundChange reports whether w may move to round with the given open
 // state: closing needs the current round open and round equal to it;
-// opening needs the current round closed and round one past it.
+// opening needs the current round closed, round one past it and at most
+// MaxRounds.
 func (w Workshop) CheckRoundChange(round int, open bool) error {
 	switch {
+	case open && w.Round >= MaxRounds:
+		return inputErr("round", elicit.RuleCountRange, "a workshop runs at most %d rounds", MaxRounds)
 	case open && w.Archived:
 		return inputErr("round", RuleArchived, "bring the workshop back before opening a round")
 	case open && w.Open:

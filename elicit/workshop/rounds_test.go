@@ -41,6 +41,21 @@ func TestCheckRoundChange(t *testing.T) {
 	}
 }
 
+// No round opens past MaxRounds, so a workshop's round never nears
+// overflow and every workshop exports a record its import takes.
+func TestRoundsStopAtMaxRounds(t *testing.T) {
+	if err := (Workshop{Round: MaxRounds - 1}).CheckRoundChange(MaxRounds, true); err != nil {
+		t.Fatalf("opening round %d: %v", MaxRounds, err)
+	}
+	var ie *elicit.InputError
+	if err := (Workshop{Round: MaxRounds}).CheckRoundChange(MaxRounds+1, true); !errors.As(err, &ie) || ie.Field != "round" || ie.Rule != elicit.RuleCountRange {
+		t.Fatalf("opening round %d: %v, want %q", MaxRounds+1, err, elicit.RuleCountRange)
+	}
+	if err := (Workshop{Round: MaxRounds, Open: true}).CheckRoundChange(MaxRounds, false); err != nil {
+		t.Fatalf("closing the last round: %v", err)
+	}
+}
+
 // Delphi feedback in round r is the panel as round r−1 closed (common
 // practice of controlled feedback, no source for the exact rule).
 func TestFeedbackRound(t *testing.T) {

@@ -4,6 +4,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // AnswerFormat is how experts answer a question.
@@ -322,4 +323,44 @@ type DeletedWorkshop struct {
 	Title      string    `json:"title"`
 	Reason     string    `json:"reason"`
 	At         time.Time `json:"at"`
+}
+
+// CheckText checks the workshop's text by the rules of the forms it is
+// typed in (input.CheckText): a title of at most input.MaxShortText
+// characters, a purpose, decision and notes of at most input.MaxLongText.
+// Errors name the field by its JSON key.
+func (w Workshop) CheckText() error {
+	return checkTexts([]textField{
+		{"title", w.Title, input.MaxShortText, true},
+		{"purpose", w.Purpose, input.MaxLongText, false},
+		{"decision", w.Decision, input.MaxLongText, false},
+		{"notes", w.Notes, input.MaxLongText, false},
+	})
+}
+
+// CheckText checks the expert's text by the rules of the roster form: a
+// name and an affiliation of at most input.MaxShortText characters,
+// expertise of at most input.MaxLongText.
+func (e Expert) CheckText() error {
+	return checkTexts([]textField{
+		{"name", e.Name, input.MaxShortText, true},
+		{"affiliation", e.Affiliation, input.MaxShortText, false},
+		{"expertise", e.Expertise, input.MaxLongText, false},
+	})
+}
+
+// textField is one text field with its limit in characters.
+type textField struct {
+	name, value string
+	max         int
+	required    bool
+}
+
+func checkTexts(fs []textField) error {
+	for _, f := range fs {
+		if err := input.CheckText(f.name, f.value, f.max, f.required); err != nil {
+			return err
+		}
+	}
+	return nil
 }
