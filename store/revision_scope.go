@@ -36,7 +36,8 @@ func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID 
 // LatestRevisions returns each expert's latest revision of one question
 // saved in round `through` or before (the one with the highest id,
 // revisions being append-only), ordered by revision id: what
-// workshop.LatestThrough picks from all the question's revisions.
+// workshop.Current picks from all the question's revisions with
+// workshop.Through(through), for a round through of 1 or more.
 func (db *DB) LatestRevisions(ctx context.Context, questionID int64, through int) ([]workshop.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r

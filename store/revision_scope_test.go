@@ -1,8 +1,10 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"reflect"
+	"slices"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -88,7 +90,7 @@ func TestScopedRevisionReads(t *testing.T) {
 
 	// Round 2: Ada revises question 0 again. Read through round 1, the
 	// panel stays as round 1 closed; through round 2 it has her revision.
-	// Both reads equal workshop.LatestThrough over the question's revisions.
+	// Both reads equal workshop.Current over the question's revisions.
 	if err := db.SetRound(ctx, a.w.ID, 1, false, "discussion"); err != nil {
 		t.Fatal(err)
 	}
@@ -105,7 +107,12 @@ func TestScopedRevisionReads(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		if want := workshop.LatestThrough(ofQ0, through); len(want) != 3 || !reflect.DeepEqual(got, want) {
+		var want []workshop.Revision
+		for _, r := range workshop.Current(ofQ0, workshop.Through(through)) {
+			want = append(want, r)
+		}
+		slices.SortFunc(want, func(a, b workshop.Revision) int { return cmp.Compare(a.ID, b.ID) })
+		if len(want) != 3 || !reflect.DeepEqual(got, want) {
 			t.Errorf("LatestRevisions through round %d = %+v, want %+v", through, got, want)
 		}
 		for _, r := range got {

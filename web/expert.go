@@ -870,21 +870,25 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 		if err != nil {
 			return nil, err
 		}
+		experts, err := s.store.Experts(r.Context(), ws.ID)
+		if err != nil {
+			return nil, err
+		}
 		salt, err := s.store.PanelSalt(r.Context(), ws.ID)
 		if err != nil {
 			return nil, err
 		}
+		// Revoked as the key says, so the feedback is the key's.
 		gone := map[int64]bool{}
 		for _, id := range revoked {
 			gone[id] = true
 		}
-		var kept []workshop.Revision
-		for _, rv := range revs {
-			if !gone[rv.ExpertID] {
-				kept = append(kept, rv)
-			}
+		for i := range experts {
+			experts[i].Revoked = gone[experts[i].ID]
 		}
-		return newFeedback(q, kept, salt), nil
+		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: experts, Revisions: revs,
+			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: fits.fit})
+		return newFeedback(panel, salt), nil
 	})
 	if err != nil {
 		return nil, err
@@ -895,38 +899,37 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	return fb, nil
 }
 
-// newFeedback fits the revisions (through the fit cache), orders the
-// experts by panelOrder and labels them in that order, keeps the reasons
-// the facilitator has not withheld, and pools the fits with equal
-// weights. Revisions that cannot be fitted are left out.
-func newFeedback(q workshop.Question, revs []workshop.Revision, salt []byte) *feedback {
+// newFeedback orders the panel's active experts with a fit by
+// panelOrder and labels them in that order, keeps the reasons the
+// facilitator has not withheld, and takes the panel's equal-weight pool.
+// Revisions that cannot be fitted are left out.
+func newFeedback(panel workshop.Panel, salt []byte) *feedback {
 	type keyed struct {
 		key string
 		m   feedbackMember
 	}
+	q := panel.Question
 	var ks []keyed
-	var panel []workshop.PanelFit
-	for _, rv := range revs {
-		fit, err := fits.fit(q, rv)
-		if err != nil {
+	for _, pm := range panel.Members {
+		if !pm.Fitted() {
 			continue
 		}
-		m := feedbackMember{expertID: rv.ExpertID, dist: fit.Dist}
+		rv := pm.Revision
+		m := feedbackMember{expertID: pm.Expert.ID, dist: pm.Fit.Dist}
 		if !rv.ReasonWithheld {
 			m.reason, m.reasonRound = strings.TrimSpace(rv.Reason), rv.Round
 		}
-		panel = append(panel, workshop.PanelFit{ExpertID: rv.ExpertID, Dist: &fit.Dist})
-		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), m})
+		ks = append(ks, keyed{panelOrder(salt, q.ID, pm.Expert.ID), m})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
-	fb := &feedback{}
+	fb := &feedback{poolErr: panel.PoolErr}
 	for i, k := range ks {
 		k.m.label = panelLabel(i)
 		fb.members = append(fb.members, k.m)
 	}
-	// The same pooling rule as the facilitator's panel, with equal weights.
-	pp, err := workshop.PoolPanel(panel, workshop.Weights{Scheme: workshop.WeightsEqual})
-	fb.pool, fb.poolErr = pp.Pool, err
+	if panel.Pool != nil {
+		fb.pool = *panel.Pool
+	}
 	return fb
 }
 

@@ -23,7 +23,7 @@ type expertFitRow struct {
 	Fit      *elicit.Fit
 	FitError string  // why the saved answer could not be fitted
 	Weight   float64 // as set, unnormalised (Weights.Of)
-	Share    float64 // normalised weight in the pool (workshop.PoolPanel)
+	Share    float64 // normalised weight in the pool (workshop.PanelState)
 	Pooled   bool
 }
 
@@ -82,11 +82,11 @@ func (s *Server) readWorkshopData(ctx context.Context, ws workshop.Workshop) (wo
 	return d, nil
 }
 
-// state builds question q's state: each expert's latest revision fitted
-// with Question.Fit, the linear opinion pool of the active experts' fits
-// under the workshop's weights (elicit.LinearPool), and its best single
-// Beta (Pool.BestBeta). Revoked experts stay in the table but not in the
-// pool.
+// state builds question q's state from its panel state
+// (workshop.PanelState: each expert's latest revision fitted through the
+// fit cache, the linear opinion pool of the active experts' fits under the
+// workshop's weights, and its single Beta) and the question's history and
+// agreed priors. Revoked experts stay in the table but not in the pool.
 func (d workshopData) state(q workshop.Question) questionState {
 	st := questionState{Question: q, Weights: d.Weights}
 	for _, rv := range d.Revisions {
@@ -99,60 +99,32 @@ func (d workshopData) state(q workshop.Question) questionState {
 			st.Agreed = append(st.Agreed, p)
 		}
 	}
-	var panel []workshop.PanelFit
-	for _, e := range d.Experts {
-		row := expertFitRow{Expert: e}
-		for i := range st.History {
-			if st.History[i].ExpertID == e.ID {
-				row.Revision = &st.History[i]
-				row.Saves++
-			}
+	panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History,
+		Weights: d.Weights, Fit: fits.fit})
+	for _, m := range panel.Members {
+		row := expertFitRow{Expert: m.Expert, Revision: m.Revision, Saves: m.Saves, Fit: m.Fit,
+			Pooled: m.Pooled, Weight: m.Weight, Share: m.Share}
+		if m.FitErr != nil {
+			row.FitError = m.FitErr.Error()
 		}
-		m := workshop.PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
-		if row.Revision != nil {
-			fit, err := fits.fit(q, *row.Revision)
-			if err != nil {
-				row.FitError = err.Error()
-			} else {
-				row.Fit = &fit
-				m.Dist = &fit.Dist
-			}
-		}
-		panel = append(panel, m)
 		st.Rows = append(st.Rows, row)
 	}
-	pp, err := workshop.PoolPanel(panel, d.Weights)
-	switch {
+	switch err := panel.PoolErr; {
 	case errors.Is(err, workshop.ErrNoFits):
 		st.PoolError = "No expert has a fitted judgement on this question yet."
+		return st
+	case errors.Is(err, workshop.ErrPoolPoints):
+		st.PoolError = "The pool's quantiles cannot be computed: " + strings.TrimPrefix(err.Error(), workshop.ErrPoolPoints.Error()+": ")
 		return st
 	case err != nil:
 		st.PoolError = "The pool cannot be formed: " + err.Error()
 		return st
 	}
-	for i, id := range pp.Experts {
-		for k := range st.Rows {
-			if st.Rows[k].Expert.ID == id {
-				st.Rows[k].Pooled = true
-				st.Rows[k].Weight = d.Weights.Of(id)
-				st.Rows[k].Share = pp.Weights[i]
-			}
-		}
-	}
-	pool := pp.Pool
-	st.Pool = &pool
-	qs, err := pool.QuantileSet([]float64{0.05, 0.5, 0.95})
-	if err != nil {
-		st.PoolError = "The pool's quantiles cannot be computed: " + err.Error()
-		st.Pool = nil
-		return st
-	}
-	st.PoolQs = qs
-	rep, err := pool.BestBeta()
-	if err != nil {
-		st.RepError = "No single Beta could be fitted to the pool: " + err.Error()
+	st.Pool, st.PoolQs = panel.Pool, panel.Points
+	if panel.Single == nil {
+		st.RepError = "No single Beta could be fitted to the pool: " + panel.SingleErr.Error()
 	} else {
-		st.Rep = &rep
+		st.Rep = panel.Single
 	}
 	return st
 }

@@ -65,7 +65,7 @@ type Store interface {
 	// Narrower reads for the expert's pages, which are opened many times a
 	// round: one expert's revisions (all questions, or one), and each
 	// expert's latest revision of one question saved in round `through` or
-	// before (workshop.LatestThrough). All ordered by revision id.
+	// before (workshop.Current with workshop.Through). All ordered by revision id.
 	ExpertRevisions(ctx context.Context, expertID int64) ([]workshop.Revision, error)
 	QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]workshop.Revision, error)
 	LatestRevisions(ctx context.Context, questionID int64, through int) ([]workshop.Revision, error)

@@ -139,11 +139,11 @@ type Snippet struct {
 }
 
 // Build builds the export document at time now. Every revision is
-// fitted with its question's Fit; each question's pool is the linear
-// opinion pool (LinearPool) of the current fits of the experts who are not
-// revoked, weighted by the current weights (equal weights give each expert
-// 1; other schemes give an expert without a weight 0). A true value is
-// left out until the facilitator has revealed it.
+// fitted with its question's Fit; each question's current fits, pool and
+// single Beta are its panel state (workshop.PanelState) under the current
+// weights (equal weights give each expert 1; other schemes give an expert
+// without a weight 0). A true value is left out until the facilitator has
+// revealed it.
 func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 	r := Record{
 		Format:        Version,
@@ -178,7 +178,13 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 	for _, w := range src.WeightHistory {
 		r.WeightHistory = append(r.WeightHistory, withheld(w))
 	}
-	latest := map[[2]int64]int{} // (question, expert) → index in r.Revisions
+	// Every revision is fitted once; the panels read these fits.
+	type fitted struct {
+		fit elicit.Fit
+		err error
+	}
+	fits := make(map[int64]fitted, len(src.Revisions))
+	index := make(map[int64]int, len(src.Revisions)) // revision id → index in r.Revisions
 	for _, rv := range src.Revisions {
 		q, ok := questions[rv.QuestionID]
 		if !ok {
@@ -188,42 +194,42 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 		if rr.EnteredBy == "" {
 			rr.EnteredBy = workshop.ByExpert // records older than the field were all the experts' own
 		}
-		if f, err := q.Fit(rv.Answer); err != nil {
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
 			rr.FitError = err.Error()
 		} else {
 			rr.Fit = FitOf(f)
 		}
-		latest[[2]int64{rv.QuestionID, rv.ExpertID}] = len(r.Revisions)
+		fits[rv.ID] = fitted{f, err}
+		index[rv.ID] = len(r.Revisions)
 		r.Revisions = append(r.Revisions, rr)
+	}
+	fitOf := func(_ workshop.Question, rv workshop.Revision) (elicit.Fit, error) {
+		f := fits[rv.ID]
+		return f.fit, f.err
 	}
 	for _, q := range src.Questions {
 		rq := Question{Question: q, CurrentFits: []CurrentFit{}, PriorHistory: []workshop.AgreedPrior{}}
 		if !q.Revealed {
 			rq.TrueValue = nil
 		}
-		var panel []workshop.PanelFit
-		for _, e := range src.Experts {
-			i, ok := latest[[2]int64{q.ID, e.ID}]
-			if !ok {
+		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: src.Experts,
+			Revisions: src.Revisions, Weights: src.Weights, Fit: fitOf})
+		for _, m := range panel.Members {
+			if m.Revision == nil {
 				continue
 			}
-			rv := r.Revisions[i]
+			rv := r.Revisions[index[m.Revision.ID]]
 			rq.CurrentFits = append(rq.CurrentFits, CurrentFit{
-				ExpertID: e.ID, RevisionID: rv.ID, Round: rv.Round, Fit: rv.Fit, FitError: rv.FitError,
+				ExpertID: m.Expert.ID, RevisionID: rv.ID, Round: rv.Round, Fit: rv.Fit, FitError: rv.FitError,
 			})
-			m := workshop.PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
-			if rv.Fit != nil {
-				d := rv.Fit.Dist
-				m.Dist = &d
-			}
-			panel = append(panel, m)
 		}
-		switch pp, err := workshop.PoolPanel(panel, src.Weights); {
-		case errors.Is(err, workshop.ErrNoFits):
-		case err != nil:
-			rq.PoolError = err.Error()
+		switch {
+		case errors.Is(panel.PoolErr, workshop.ErrNoFits):
+		case panel.PoolErr != nil:
+			rq.PoolError = panel.PoolErr.Error()
 		default:
-			rq.Pool = recordPool(pp)
+			rq.Pool = recordPool(panel)
 		}
 		for _, ap := range src.Priors {
 			if ap.QuestionID == q.ID {
@@ -241,23 +247,25 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 }
 
 // recordPool is a panel's pool as the record writes it.
-func recordPool(pp workshop.PanelPool) *Pool {
-	pool := pp.Pool
+func recordPool(p workshop.Panel) *Pool {
+	pts := p.Points
 	rp := &Pool{
-		Weights:     make([]workshop.ExpertWeight, len(pp.Experts)),
-		Mean:        pool.Mean(),
-		SD:          pool.SD(),
-		Percentiles: workshop.Percentiles{P05: pool.Quantile(0.05), P50: pool.Quantile(0.5), P95: pool.Quantile(0.95)},
+		Weights:     []workshop.ExpertWeight{},
+		Mean:        p.Pool.Mean(),
+		SD:          p.Pool.SD(),
+		Percentiles: workshop.Percentiles{P05: pts[0].Value, P50: pts[1].Value, P95: pts[2].Value},
 	}
-	if best, err := pool.BestBeta(); err != nil {
-		rp.BestBetaError = err.Error()
+	if p.Single == nil {
+		rp.BestBetaError = p.SingleErr.Error()
 	} else {
-		d := best.QuantileDiffs
-		rp.BestBeta = &BestBeta{Dist: best.Dist, SSE: best.SSE, MaxCDFError: best.MaxCDFError,
+		d := p.Single.QuantileDiffs
+		rp.BestBeta = &BestBeta{Dist: p.Single.Dist, SSE: p.Single.SSE, MaxCDFError: p.Single.MaxCDFError,
 			QuantileDiffs: workshop.Percentiles{P05: d[0], P50: d[1], P95: d[2]}}
 	}
-	for i, id := range pp.Experts {
-		rp.Weights[i] = workshop.ExpertWeight{ExpertID: id, Weight: pp.Weights[i]}
+	for _, m := range p.Members {
+		if m.Pooled {
+			rp.Weights = append(rp.Weights, workshop.ExpertWeight{ExpertID: m.Expert.ID, Weight: m.Share})
+		}
 	}
 	return rp
 }

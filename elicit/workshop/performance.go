@@ -57,36 +57,22 @@ func (c CalibrationSet) Ready() bool {
 func SeedExpertKey(id int64) string   { return "e" + strconv.FormatInt(id, 10) }
 func SeedQuestionKey(id int64) string { return "q" + strconv.FormatInt(id, 10) }
 
-// latestRevisions maps (question, expert) to the expert's current
-// revision: the last one in revisions, which are oldest first.
-func latestRevisions(revisions []Revision) map[[2]int64]Revision {
-	m := make(map[[2]int64]Revision, len(revisions))
-	for _, rv := range revisions {
-		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
-	}
-	return m
-}
-
-// answersAtReveal maps (question, expert) to the answer the scores use:
-// the expert's latest revision, except that on a calibration question
-// whose true value has been revealed it is the latest saved by the
-// reveal (ID at most RevealedThrough), so that nothing saved after the
-// truth was shown can earn weight.
-func answersAtReveal(questions []Question, revisions []Revision) map[[2]int64]Revision {
+// answersAtReveal are the answers the scores use (Current): each
+// expert's latest revision, except that on a calibration question whose
+// true value has been revealed it is the latest saved by the reveal (ID
+// at most RevealedThrough), so that nothing saved after the truth was
+// shown can earn weight.
+func answersAtReveal(questions []Question, revisions []Revision) map[Key]Revision {
 	through := map[int64]int64{}
 	for _, q := range questions {
 		if q.Frozen() && q.RevealedThrough > 0 {
 			through[q.ID] = q.RevealedThrough
 		}
 	}
-	m := make(map[[2]int64]Revision, len(revisions))
-	for _, rv := range revisions {
-		if t, ok := through[rv.QuestionID]; ok && rv.ID > t {
-			continue
-		}
-		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
-	}
-	return m
+	return Current(revisions, func(rv Revision) bool {
+		t, frozen := through[rv.QuestionID]
+		return !frozen || rv.ID <= t
+	})
 }
 
 // AnswersRule says which answers the classical model scores; the record
@@ -119,7 +105,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 			continue
 		}
 		for _, e := range set.Experts {
-			if _, ok := latest[[2]int64{q.ID, e.ID}]; ok {
+			if _, ok := latest[Key{q.ID, e.ID}]; ok {
 				set.Answered[q.ID] = append(set.Answered[q.ID], e)
 			}
 		}
@@ -142,7 +128,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		set.Realisations[key] = *q.TrueValue
 		set.Bounds[key] = [2]float64{q.Lower, q.Upper}
 		for _, e := range set.Answered[q.ID] {
-			rv := latest[[2]int64{q.ID, e.ID}]
+			rv := latest[Key{q.ID, e.ID}]
 			set.Assessments = append(set.Assessments, elicit.SeedAssessment{
 				Expert: SeedExpertKey(e.ID), Question: key,
 				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
@@ -395,9 +381,9 @@ type targetFits struct {
 }
 
 // fitTargets fits every active expert's current answer to each target
-// (non-calibration) question, in workshop order.
+// (non-calibration) question, in workshop order, by the members of
+// PanelState.
 func fitTargets(questions []Question, experts []Expert, revisions []Revision) []targetFits {
-	latest := latestRevisions(revisions)
 	qs := append([]Question(nil), questions...)
 	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
 	var out []targetFits
@@ -406,13 +392,9 @@ func fitTargets(questions []Question, experts []Expert, revisions []Revision) []
 			continue
 		}
 		t := targetFits{q: q}
-		for _, e := range experts {
-			rv, ok := latest[[2]int64{q.ID, e.ID}]
-			if !ok || e.Revoked {
-				continue
-			}
-			if f, err := q.Fit(rv.Answer); err == nil {
-				t.dists, t.ids = append(t.dists, f.Dist), append(t.ids, e.ID)
+		for _, m := range members(PanelInput{Question: q, Experts: experts, Revisions: revisions}) {
+			if m.Fitted() {
+				t.dists, t.ids = append(t.dists, m.Fit.Dist), append(t.ids, m.Expert.ID)
 			}
 		}
 		out = append(out, t)

@@ -1,8 +1,6 @@
 package workshop
 
 import (
-	"sort"
-
 	"github.com/parley-elicit/parley/elicit"
 )
 
@@ -48,26 +46,4 @@ func (w Workshop) FeedbackRound() int {
 		return 0
 	}
 	return w.Round - 1
-}
-
-// LatestThrough picks, from revisions of one question, each expert's
-// latest revision saved in round `through` or before, in order of
-// revision id. Revisions are append-only, so the latest is the one with
-// the highest id.
-func LatestThrough(revs []Revision, through int) []Revision {
-	latest := map[int64]Revision{}
-	for _, r := range revs {
-		if r.Round > through {
-			continue
-		}
-		if cur, ok := latest[r.ExpertID]; !ok || r.ID > cur.ID {
-			latest[r.ExpertID] = r
-		}
-	}
-	out := make([]Revision, 0, len(latest))
-	for _, r := range latest {
-		out = append(out, r)
-	}
-	sort.Slice(out, func(i, j int) bool { return out[i].ID < out[j].ID })
-	return out
 }

@@ -2,7 +2,6 @@ package workshop
 
 import (
 	"errors"
-	"slices"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -66,31 +65,6 @@ func TestFeedbackRound(t *testing.T) {
 	}{{1, true, 0}, {1, false, 0}, {2, true, 1}, {2, false, 1}, {3, true, 2}} {
 		if got := (Workshop{Round: tt.round, Open: tt.open}).FeedbackRound(); got != tt.want {
 			t.Errorf("round %d (open %v): FeedbackRound = %d, want %d", tt.round, tt.open, got, tt.want)
-		}
-	}
-}
-
-// LatestThrough keeps each expert's highest-id revision up to a round,
-// worked by hand on an invented history of three experts.
-func TestLatestThrough(t *testing.T) {
-	revs := []Revision{
-		{ID: 1, ExpertID: 10, Round: 1},
-		{ID: 2, ExpertID: 20, Round: 1},
-		{ID: 3, ExpertID: 10, Round: 1}, // 10 revises within round 1
-		{ID: 4, ExpertID: 10, Round: 2},
-		{ID: 5, ExpertID: 30, Round: 2}, // 30 first answers in round 2
-		{ID: 6, ExpertID: 20, Round: 3},
-	}
-	ids := func(rs []Revision) []int64 {
-		var out []int64
-		for _, r := range rs {
-			out = append(out, r.ID)
-		}
-		return out
-	}
-	for through, want := range map[int][]int64{0: nil, 1: {2, 3}, 2: {2, 4, 5}, 3: {4, 5, 6}} {
-		if got := ids(LatestThrough(revs, through)); !slices.Equal(got, want) {
-			t.Errorf("LatestThrough(%d) = %v, want %v", through, got, want)
 		}
 	}
 }
