@@ -12,7 +12,7 @@ func inputErr(field string, rule elicit.Rule, format string, args ...any) *elici
 	return &elicit.InputError{Field: field, Rule: rule, Detail: fmt.Sprintf(format, args...)}
 }
 
-// under puts an InputError's field below a path in the document, so
+// under puts an elicit.InputError's field below a path in the document, so
 // "values[1]" from a fit becomes "revisions[3].answer.values[1]". Other
 // errors are returned as they are.
 func under(path string, err error) error {

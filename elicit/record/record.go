@@ -109,7 +109,7 @@ type Pool struct {
 	Mean        float64                 `json:"mean"`
 	SD          float64                 `json:"sd"`
 	Percentiles workshop.Percentiles    `json:"percentiles"`
-	// BestBeta is the single Beta that represents the pool (Pool.BestBeta);
+	// BestBeta is the single Beta that represents the pool (elicit.Pool.BestBeta);
 	// BestBetaError says why there is none.
 	BestBeta      *BestBeta `json:"best_beta,omitempty"`
 	BestBetaError string    `json:"best_beta_error,omitempty"`

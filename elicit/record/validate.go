@@ -19,7 +19,7 @@ import (
 // workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
 // by fitting them. Derived numbers (fits, pools, snippets) are not trusted
 // and not checked: an import drops them. The first broken rule is
-// returned as an *InputError whose Field is the path into the document,
+// returned as an *elicit.InputError whose Field is the path into the document,
 // e.g. "revisions[3].answer.values[1]".
 func (r Record) Validate() error {
 	if r.Format != Version {

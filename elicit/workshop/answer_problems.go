@@ -16,7 +16,7 @@ const RuleConfidenceForm = elicit.RuleProbOpen
 // strictly inside the bounds, values strictly increasing (a value is
 // named when it is not above the value before it), the confidence
 // strictly between 0 and 1, chips whole, none negative, not more than
-// the question allows, in at least MinChipBins bins. It is what a form
+// the question allows, in at least elicit.MinChipBins bins. It is what a form
 // shows beside every field at once; Question.Fit refuses the first of
 // them, then applies the rules only the fit can check. A question that
 // breaks its own rules is reported as that one problem.

@@ -7,7 +7,7 @@ import (
 )
 
 // BasisClassicalModel is the method of a WeightBasis: Cooke's classical
-// model as ClassicalModel computes it.
+// model as elicit.ClassicalModel computes it.
 const BasisClassicalModel = "classical_model"
 
 // WeightBasis is what a set of performance weights was made from, kept
@@ -20,7 +20,7 @@ const BasisClassicalModel = "classical_model"
 // cut-off and how it was chosen, the performance-weighted pool's scores,
 // and the warnings about the weighting's strength).
 //
-// ClassicalModel on CalibrationAnswers, the true values and the bounds,
+// elicit.ClassicalModel on CalibrationAnswers, the true values and the bounds,
 // with Overshoot and the cut-off Alpha fixed (or optimised, when
 // AlphaRule is AlphaOptimised), gives Experts' scores and weights again.
 type WeightBasis struct {
@@ -95,7 +95,7 @@ func NewWeightBasis(set CalibrationSet, p Performance) WeightBasis {
 	return b
 }
 
-// ModelInput is the basis as ClassicalModel's input, with experts and
+// ModelInput is the basis as elicit.ClassicalModel's input, with experts and
 // questions keyed by SeedExpertKey and SeedQuestionKey, and the options
 // that reproduce the cut-off. It fails when a true value is withheld.
 func (b WeightBasis) ModelInput() ([]elicit.SeedAssessment, map[string]float64, map[string][2]float64, elicit.ModelOptions, error) {

@@ -188,7 +188,7 @@ func probsText(ps []float64) string {
 }
 
 // Performance is the record's account of performance weighting by Cooke's
-// classical model (see ClassicalModel): each expert's scores and weight on
+// classical model (see elicit.ClassicalModel): each expert's scores and weight on
 // the calibration questions, the cut-off α, the performance-weighted
 // pool's scores and the robustness of the weights.
 type Performance struct {
@@ -233,7 +233,7 @@ type PerformanceExpert struct {
 	Weight      float64 `json:"weight"`
 }
 
-// ScorePerformance runs ClassicalModel on set with the cut-off alpha (nil:
+// ScorePerformance runs elicit.ClassicalModel on set with the cut-off alpha (nil:
 // optimised) and returns the scores by expert. The set must be Ready.
 func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	if !set.Ready() {
@@ -361,7 +361,7 @@ type PoolSummary struct {
 }
 
 // PoolComparison sets a target question's equal-weight pool beside its
-// performance-weight pool, both LinearPool over the active experts'
+// performance-weight pool, both elicit.LinearPool over the active experts'
 // current fitted Betas.
 type PoolComparison struct {
 	Question         Question     `json:"-"`
@@ -434,7 +434,7 @@ func ComparePools(questions []Question, experts []Expert, revisions []Revision, 
 	return out
 }
 
-// Robustness is LeaveOneOut on a workshop's calibration questions, with
+// Robustness is elicit.LeaveOneOut on a workshop's calibration questions, with
 // the target questions' current fits as the targets, named by ID.
 type Robustness struct {
 	// Targets are the IDs of the questions watched: the target questions
@@ -474,7 +474,7 @@ type RobustnessRow struct {
 	Error    string         `json:"error,omitempty"`
 }
 
-// PerformanceRobustness runs LeaveOneOut on set with the cut-off alpha
+// PerformanceRobustness runs elicit.LeaveOneOut on set with the cut-off alpha
 // (nil: optimised again on each rerun), watching the linear pools of the
 // active experts' current fits on the target questions.
 func PerformanceRobustness(set CalibrationSet, questions []Question, experts []Expert, revisions []Revision, alpha *float64) (Robustness, error) {

@@ -32,14 +32,14 @@ var (
 const MaxChips = 1000
 
 // Validate checks a question's definition and returns the first broken
-// rule as an *InputError: the wording (at most input.MaxLongText
-// characters), quantity and units (input.MaxShortText) by input.CheckText,
-// wording and quantity present;
-// bounds finite and ordered; a known format; for FormatQuantiles,
-// MinPairs to MaxPairs probabilities passing CheckProbs; for FormatChips,
-// MinBins to MaxBins bins whose edges strictly increase from Lower to
-// Upper and between MinChipBins and MaxChips chips; a true value, if set,
-// finite and strictly inside (Lower, Upper).
+// rule as an *elicit.InputError: the wording (at most input.MaxLongText
+// characters), quantity and units (input.MaxShortText) by the text rule of
+// input.CheckText, wording and quantity present; bounds finite and
+// ordered; a known format; for FormatQuantiles, elicit.MinPairs to
+// elicit.MaxPairs probabilities passing elicit.CheckProbs; for
+// FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
+// increase from Lower to Upper and between elicit.MinChipBins and MaxChips
+// chips; a true value, if set, finite and strictly inside (Lower, Upper).
 func (q Question) Validate() error {
 	if err := q.checkText(); err != nil {
 		return err
@@ -95,7 +95,7 @@ func (q Question) checkText() error {
 
 // Judgement turns an answer in a quantile format into the judgement it
 // states: FormatQuantiles gives P(X ≤ Values[i]) = Probs[i]; FormatInterval
-// goes through FourValue. FormatChips is not a quantile judgement and is
+// goes through elicit.FourValue. FormatChips is not a quantile judgement and is
 // refused with RuleQuantileFormat; use Fit.
 func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
 	if err := q.Validate(); err != nil {
@@ -121,7 +121,7 @@ func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
 
 // Fit turns an expert's answer, in the question's format, into a fitted
 // Beta on [Lower, Upper]: quantile and interval answers through Judgement
-// and FitQuantiles, chips through FitChips (at most q.Chips chips may be
+// and elicit.FitQuantiles, chips through elicit.FitChips (at most q.Chips chips may be
 // placed). The first of q.Problems(a) is refused before anything else. Errors name the answer's field, e.g. "values[1]", "lowest",
 // "confidence" or "counts[2]".
 func (q Question) Fit(a Answer) (elicit.Fit, error) {

@@ -17,7 +17,7 @@ const (
 	FormatQuantiles AnswerFormat = "quantiles"
 	// FormatInterval asks for four values: lowest, highest, best estimate,
 	// and the expert's confidence that the truth lies between lowest and
-	// highest. See FourValue.
+	// highest. See elicit.FourValue.
 	FormatInterval AnswerFormat = "interval"
 	// FormatChips asks the expert to place chips in bins (trial roulette).
 	FormatChips AnswerFormat = "chips"
