@@ -140,11 +140,24 @@ type ExpertWeight struct {
 	Weight   float64 `json:"weight"`
 }
 
-// RecordPrior is the current agreed prior with one-line snippets of it in
-// modelling languages.
+// RecordPrior is the current agreed prior with its summary (mean, SD and
+// 5th, 50th and 95th percentiles, on the question's scale) and one-line
+// snippets of it in modelling languages. The priors CSV and the report's
+// summary table print these very numbers.
 type RecordPrior struct {
 	AgreedPrior
-	Snippets []Snippet `json:"snippets"`
+	Mean        float64     `json:"mean"`
+	SD          float64     `json:"sd"`
+	Percentiles Percentiles `json:"percentiles"`
+	Snippets    []Snippet   `json:"snippets"`
+}
+
+// newRecordPrior summarises an agreed prior for the record.
+func newRecordPrior(p AgreedPrior) *RecordPrior {
+	d := p.Dist
+	return &RecordPrior{AgreedPrior: p, Mean: d.Mean(), SD: d.SD(),
+		Percentiles: Percentiles{d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)},
+		Snippets:    PriorSnippets(d)}
 }
 
 // Snippet is a prior written in one modelling language's notation.
@@ -262,7 +275,7 @@ func BuildRecord(src RecordSource, now time.Time) (Record, error) {
 		}
 		if n := len(rq.PriorHistory); n > 0 {
 			cur := rq.PriorHistory[n-1]
-			rq.AgreedPrior = &RecordPrior{AgreedPrior: cur, Snippets: PriorSnippets(cur.Dist)}
+			rq.AgreedPrior = newRecordPrior(cur)
 		}
 		r.Questions = append(r.Questions, rq)
 	}
