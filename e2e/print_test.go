@@ -91,8 +91,15 @@ func TestReportPrints(t *testing.T) {
 	}
 
 	fac.open(wsURL + "/report")
-	fac.sees("report", "Agreed priors")
-	dir := newScreenshots(t).dir
+	fac.sees("report", "Agreed priors", "1 of 1 target questions have an agreed prior")
+	shots := newScreenshots(t)
+	shots.take(fac, "report-1366")
+	fac.viewport(390, 844, true)
+	fac.open(wsURL + "/report")
+	shots.take(fac, "report-390")
+	fac.viewport(1366, 900, false)
+	fac.open(wsURL + "/report")
+	dir := shots.dir
 	for _, pp := range papers {
 		var pdf []byte
 		fac.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
