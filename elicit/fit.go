@@ -99,8 +99,9 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		ProbErrors: append([]float64(nil), resid...),
 		Warnings:   []Warning{},
 	}
+	c := newIncBeta(d.Alpha, d.Beta.Beta)
 	for i, p := range probs {
-		f.Fitted[i] = d.quantileNear(p, values[i])
+		f.Fitted[i] = d.fittedValue(&c, p, values[i], resid[i])
 		f.MaxProbError = math.Max(f.MaxProbError, math.Abs(f.ProbErrors[i]))
 	}
 	for k, p := range [3]float64{0.05, 0.5, 0.95} {
@@ -119,6 +120,28 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 	}
 	f.Warnings = fitWarnings(d.Beta, f.MaxProbError)
 	return f
+}
+
+// fittedQuantileAccept is the Halley step (relative) that a fitted value
+// accepts as converged (incBeta.quantileWithin).
+const fittedQuantileAccept = 1e-6
+
+// fittedValue is d's quantile at p, the fitted value beside a stated
+// value x0 whose CDF under d is p + r (the fit's residual, known): a
+// Newton step x0 − r/f(x0) from there costs only the density, and the
+// Halley steps that follow stop once they fall below
+// fittedQuantileAccept, usually after one CDF evaluation instead of three.
+func (d ScaledBeta) fittedValue(c *incBeta, p, x0, r float64) float64 {
+	u := d.toUnit(x0)
+	if !(p > 0 && p < 1) || !(u > 0 && u < 1) || d.Beta.Validate() != nil {
+		return d.Quantile(p)
+	}
+	if f := c.density(u, 1-u); f > 0 && !math.IsInf(f, 0) && !math.IsNaN(r) {
+		if v := u - r/f; v > 0 && v < 1 {
+			u = v
+		}
+	}
+	return d.Lower + d.width()*c.quantileWithin(p, u, fittedQuantileAccept)
 }
 
 // quantileNear is d.Quantile(p) solved from x0, a value whose

@@ -1,6 +1,10 @@
 package elicit
 
-import "testing"
+import (
+	"syscall"
+	"testing"
+	"time"
+)
 
 // benchExperts is an invented panel of 20 experts on a failure rate, with
 // shapes from vague to confident and unequal weights.
@@ -53,11 +57,18 @@ func benchBestBeta(b *testing.B, ds []ScaledBeta, w []float64) {
 		b.Fatal(err)
 	}
 	b.ReportAllocs()
+	var before, after syscall.Rusage
+	_ = syscall.Getrusage(syscall.RUSAGE_SELF, &before)
+	n := 0
 	for b.Loop() {
 		if _, err := p.BestBeta(); err != nil {
 			b.Fatal(err)
 		}
+		n++
 	}
+	_ = syscall.Getrusage(syscall.RUSAGE_SELF, &after)
+	cpu := time.Duration(after.Utime.Nano()-before.Utime.Nano()) + time.Duration(after.Stime.Nano()-before.Stime.Nano())
+	b.ReportMetric(float64(cpu.Nanoseconds())/float64(n), "cpu-ns/op")
 }
 
 func BenchmarkPoolBestBeta4(b *testing.B) { benchBestBeta(b, benchPanel4(), nil) }

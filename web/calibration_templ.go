@@ -10,11 +10,11 @@ import "github.com/a-h/templ"
 import templruntime "github.com/a-h/templ/runtime"
 
 import (
-	"github.com/parley-elicit/parley/elicit/record"
-	"github.com/parley-elicit/parley/elicit/workshop"
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 

@@ -44,6 +44,7 @@ import (
 //	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
 //	GET  /w/{workshop}/report                printable record
 //	GET  /w/{workshop}/export.json|.csv      downloads (record.Build), also per question under /q/{question}/
+//	GET  /w/{workshop}/priors.csv            the agreed priors, one row per question
 //	     /w/{workshop}/calibration...        calibration.go
 func (s *Server) facilitatorRoutes(r chi.Router) {
 	r.Get("/", s.workshopList)
@@ -82,6 +83,7 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/report", s.report)
 		r.Get("/export.json", s.exportRecord("json", false))
 		r.Get("/export.csv", s.exportRecord("csv", false))
+		r.Get("/priors.csv", s.exportRecord("priors", false))
 		r.Get("/q/{question}/export.json", s.exportRecord("json", true))
 		r.Get("/q/{question}/export.csv", s.exportRecord("csv", true))
 		s.calibrationRoutes(r) // calibration.go: true values, Cooke's classical model, performance weights

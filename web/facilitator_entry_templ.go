@@ -10,8 +10,9 @@ import "github.com/a-h/templ"
 import templruntime "github.com/a-h/templ/runtime"
 
 import (
-	"github.com/parley-elicit/parley/elicit/workshop"
 	"strconv"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // entryPageView is the facilitator's page for entering one expert's

@@ -41,7 +41,8 @@ func (s *Server) record(ctx context.Context, ws workshop.Workshop) (record.Recor
 }
 
 // exportRecord downloads the workshop's record, or one question's, as
-// JSON (the whole record) or CSV (one row per revision).
+// JSON (the whole record), CSV (one row per revision) or the priors CSV
+// (one row per question with an agreed prior).
 func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc {
 	return func(w http.ResponseWriter, r *http.Request) {
 		ws, ok := s.loadWorkshop(w, r)
@@ -78,11 +79,16 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 			name += fmt.Sprintf("-question-%d", q.ID)
 		}
 		var buf bytes.Buffer
-		ctype := "application/json"
-		if format == "csv" {
+		ctype, ext := "application/json", format
+		switch format {
+		case "csv":
 			ctype = "text/csv; charset=utf-8"
 			err = rec.WriteCSV(&buf)
-		} else {
+		case "priors":
+			ctype, ext = "text/csv; charset=utf-8", "csv"
+			name += "-priors"
+			err = rec.WritePriorsCSV(&buf)
+		default:
 			err = rec.WriteJSON(&buf)
 		}
 		if err != nil {
@@ -90,7 +96,7 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 			return
 		}
 		w.Header().Set("Content-Type", ctype)
-		w.Header().Set("Content-Disposition", fmt.Sprintf(`attachment; filename="%s.%s"`, name, format))
+		w.Header().Set("Content-Disposition", fmt.Sprintf(`attachment; filename="%s.%s"`, name, ext))
 		_, _ = buf.WriteTo(w)
 	}
 }

@@ -10,8 +10,9 @@ import "github.com/a-h/templ"
 import templruntime "github.com/a-h/templ/runtime"
 
 import (
-	"github.com/parley-elicit/parley/elicit/workshop"
 	"strconv"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // sheetPage uploads an answer sheet, or previews one before it is saved.

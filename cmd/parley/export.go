@@ -12,21 +12,21 @@ import (
 )
 
 func init() {
-	command("export", "write a workshop's record as JSON or CSV (--db, --workshop, --format, --question, --out)", runExport)
+	command("export", "write a workshop's record as JSON or CSV, or its agreed priors as CSV (--db, --workshop, --format json|csv|priors, --question, --out)", runExport)
 }
 
 func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("export", stderr)
 	dbPath := fs.String("db", "", "database `file`")
 	workshopID := fs.Int64("workshop", 0, "workshop `ID`")
-	format := fs.String("format", "json", "json or csv")
+	format := fs.String("format", "json", "json (the whole record), csv (one row per revision) or priors (one row per agreed prior, CSV)")
 	question := fs.Int64("question", 0, "export only this question `ID`")
 	out := fs.String("out", "", "write to `file` instead of standard output")
 	if err := fs.Parse(args); err != nil {
 		return exitBadInput
 	}
-	if *format != "json" && *format != "csv" {
-		return fail(stderr, "export", badInput("format", "must be json or csv, got %q", *format))
+	if *format != "json" && *format != "csv" && *format != "priors" {
+		return fail(stderr, "export", badInput("format", "must be json, csv or priors, got %q", *format))
 	}
 	if *workshopID <= 0 {
 		return fail(stderr, "export", badInput("workshop", "a workshop ID (a whole number above 0) is required"))
@@ -49,9 +49,12 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		}
 	}
 	var buf bytes.Buffer
-	if *format == "csv" {
+	switch *format {
+	case "csv":
 		err = rec.WriteCSV(&buf)
-	} else {
+	case "priors":
+		err = rec.WritePriorsCSV(&buf)
+	default:
 		err = rec.WriteJSON(&buf)
 	}
 	if err != nil {

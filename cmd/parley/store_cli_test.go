@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
@@ -111,6 +112,41 @@ func TestExportCSV(t *testing.T) {
 	check(t, err)
 	if len(rows) != 4 || rows[0][0] != "workshop_id" || rows[1][5] != "Ines" {
 		t.Fatalf("csv rows %q", rows)
+	}
+}
+
+// `parley export --format priors`: the exact header of the issue, one row
+// per question with an agreed prior, its numbers equal to the JSON
+// export's (as text: shortest round-trip decimals of the same floats).
+func TestExportPriorsCSV(t *testing.T) {
+	path, wid, qid := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	code, out, errs := run("export", "--db", path, "--workshop", ws, "--format", "priors")
+	if code != exitOK {
+		t.Fatalf("exit %d: %s", code, errs)
+	}
+	if !strings.HasPrefix(out, "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at\n") {
+		t.Fatalf("header:\n%s", out)
+	}
+	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
+	check(t, err)
+	_, js, _ := run("export", "--db", path, "--workshop", ws, "--format", "json")
+	var rec record.Record
+	check(t, json.Unmarshal([]byte(js), &rec))
+	a := rec.Questions[0].AgreedPrior
+	if len(rows) != 2 || a == nil {
+		t.Fatalf("%d rows, want 1 (one agreed prior)", len(rows)-1)
+	}
+	g := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	want := []string{strconv.FormatInt(qid, 10), "survival share", "", "0", "1", g(a.Dist.Alpha), g(a.Dist.Beta.Beta),
+		g(a.Mean), g(a.SD), g(a.Percentiles.P05), g(a.Percentiles.P50), g(a.Percentiles.P95), "pool", "the pool, unchanged"}
+	for i, w := range want {
+		if rows[1][i] != w {
+			t.Errorf("column %s = %q, want %q", rows[0][i], rows[1][i], w)
+		}
+	}
+	if at, err := time.Parse(time.RFC3339Nano, rows[1][14]); err != nil || !at.Equal(a.At) {
+		t.Errorf("agreed_at %q, want %v", rows[1][14], a.At)
 	}
 }
 

@@ -125,11 +125,24 @@ type BestBeta struct {
 	QuantileDiffs workshop.Percentiles `json:"quantile_diffs"`
 }
 
-// Prior is the current agreed prior with one-line snippets of it in
-// modelling languages.
+// Prior is the current agreed prior with its summary (mean, SD and
+// 5th, 50th and 95th percentiles, on the question's scale) and one-line
+// snippets of it in modelling languages. The priors CSV and the report's
+// summary table print these very numbers.
 type Prior struct {
 	workshop.AgreedPrior
-	Snippets []Snippet `json:"snippets"`
+	Mean        float64              `json:"mean"`
+	SD          float64              `json:"sd"`
+	Percentiles workshop.Percentiles `json:"percentiles"`
+	Snippets    []Snippet            `json:"snippets"`
+}
+
+// newPrior summarises an agreed prior for the record.
+func newPrior(p workshop.AgreedPrior) *Prior {
+	d := p.Dist
+	return &Prior{AgreedPrior: p, Mean: d.Mean(), SD: d.SD(),
+		Percentiles: workshop.Percentiles{P05: d.Quantile(0.05), P50: d.Quantile(0.5), P95: d.Quantile(0.95)},
+		Snippets:    PriorSnippets(d)}
 }
 
 // Snippet is a prior written in one modelling language's notation.
@@ -238,7 +251,7 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 		}
 		if n := len(rq.PriorHistory); n > 0 {
 			cur := rq.PriorHistory[n-1]
-			rq.AgreedPrior = &Prior{AgreedPrior: cur, Snippets: PriorSnippets(cur.Dist)}
+			rq.AgreedPrior = newPrior(cur)
 		}
 		r.Questions = append(r.Questions, rq)
 	}

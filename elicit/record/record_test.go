@@ -78,6 +78,24 @@ func TestBuildRecordContent(t *testing.T) {
 	if q1.AgreedPrior == nil || q1.AgreedPrior.ID != 42 || len(q1.PriorHistory) != 2 || len(q1.AgreedPrior.Snippets) == 0 {
 		t.Fatalf("agreed prior %+v, history %d", q1.AgreedPrior, len(q1.PriorHistory))
 	}
+	// The current prior's summary, which the priors CSV and the report's
+	// summary table print. Beta(4.2, 17.9): mean a/(a+b) and SD
+	// sqrt(ab/((a+b)²(a+b+1))) by hand; percentiles from R 4.2.2's
+	// qbeta(c(0.05, 0.5, 0.95), 4.2, 17.9).
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"mean", q1.AgreedPrior.Mean, 0.190045248868778},
+		{"sd", q1.AgreedPrior.SD, 0.0816305827830828},
+		{"p05", q1.AgreedPrior.Percentiles.P05, 0.0734125890233792},
+		{"p50", q1.AgreedPrior.Percentiles.P50, 0.180604212155905},
+		{"p95", q1.AgreedPrior.Percentiles.P95, 0.339070562704284},
+	} {
+		if math.Abs(c.got-c.want) > 1e-9*c.want {
+			t.Errorf("agreed prior %s = %.15g, want %.15g", c.name, c.got, c.want)
+		}
+	}
 	if q2.TrueValue != nil {
 		t.Fatalf("unrevealed true value exported: %v", *q2.TrueValue)
 	}

@@ -1,0 +1,213 @@
+package e2e
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"fmt"
+	"io"
+	"os"
+	"os/exec"
+	"path/filepath"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/web"
+)
+
+// paper is a sheet the report is printed on, in inches as Chromium's
+// print takes them.
+type paper struct {
+	name          string
+	width, height float64
+}
+
+var papers = []paper{{"A4", 8.27, 11.69}, {"Letter", 8.5, 11}}
+
+// minFill is the issue's rule: no printed page may be less than a fifth
+// full, except the last.
+const minFill = 0.2
+
+// TestReportPrints prints the invented demo's record, with an agreed prior
+// for every target question, through Chromium's own print to PDF on A4
+// and on Letter, as a facilitator's Print command would, and measures each
+// page: rasterised by poppler's pdftoppm, a page is as full as its lowest
+// inked row. The record must open with the summary of agreed priors, state
+// the caution once, and no page but the last may be less than a fifth
+// full. The page counts are written to the log (and DEVELOPERS.md).
+func TestReportPrints(t *testing.T) {
+	raster, err := exec.LookPath("pdftoppm")
+	if err != nil {
+		t.Skipf("SKIPPING THE PRINT TEST: pdftoppm not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
+	}
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatalf("seed demo: %v", err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	w := ws[0]
+	qs, _ := site.DB.Questions(ctx, w.ID)
+	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(wsURL + "/")
+
+	// Close round 1, then agree each target question's prior from the
+	// pool, through the facilitator's own forms (posted from the page, so
+	// the same-origin rule applies as to a click).
+	post := func(path string, form map[string]string) {
+		t.Helper()
+		var b strings.Builder
+		for k, v := range form {
+			fmt.Fprintf(&b, "%s=%s&", k, urlEscape(v))
+		}
+		status := eval[int](fac, "post "+path, fmt.Sprintf(
+			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: %q, redirect: "manual"}).then(r => r.status || 303)`,
+			path, b.String()))
+		if status >= 400 {
+			t.Fatalf("post %s: status %d", path, status)
+		}
+	}
+	post(wsURL+"/round", map[string]string{"action": "close"})
+	agreed := 0
+	for _, q := range qs {
+		if q.Calibration {
+			continue // a calibration question has no prior to agree
+		}
+		post(wsURL+"/q/"+strconv.FormatInt(q.ID, 10)+"/agree", map[string]string{"source": "pool",
+			"rationale": "The panel accepted the pool's single Beta after the round-1 discussion (invented)."})
+		agreed++
+	}
+	if agreed == 0 {
+		t.Fatal("the demo has no target question")
+	}
+
+	fac.open(wsURL + "/report")
+	fac.sees("report", "Agreed priors", "1 of 1 target questions have an agreed prior")
+	shots := newScreenshots(t)
+	shots.take(fac, "report-1366")
+	fac.viewport(390, 844, true)
+	fac.open(wsURL + "/report")
+	shots.take(fac, "report-390")
+	fac.viewport(1366, 900, false)
+	fac.open(wsURL + "/report")
+	dir := shots.dir
+	for _, pp := range papers {
+		var pdf []byte
+		fac.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+			res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: pp.width, PaperHeight: pp.height})
+			pdf = res.Data
+			return err
+		}))
+		path := filepath.Join(dir, "report-"+pp.name+".pdf")
+		if err := os.WriteFile(path, pdf, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		fills := pageFills(t, raster, path)
+		t.Logf("%s: %d pages; fill of each page: %s (%s)", pp.name, len(fills), fmtFills(fills), path)
+		for i, f := range fills[:len(fills)-1] {
+			if f < minFill {
+				t.Errorf("%s: page %d of %d is only %.0f%% full (at least %.0f%% but the last)", pp.name, i+1, len(fills), 100*f, 100*minFill)
+			}
+		}
+		text := pdfText(t, path)
+		flat := strings.Join(strings.Fields(text), " ")
+		if n := strings.Count(flat, "documented judgement") + strings.Count(flat, "documented expert judgement"); n != 1 {
+			t.Errorf("%s: the caution is printed %d times, want once", pp.name, n)
+		}
+		if i, j := strings.Index(flat, "Agreed priors"), strings.Index(flat, "Purpose and decision"); i < 0 || j < 0 || i > j {
+			t.Errorf("%s: the summary of agreed priors does not come first (at %d, the panel at %d)", pp.name, i, j)
+		}
+	}
+}
+
+func urlEscape(s string) string {
+	r := strings.NewReplacer("%", "%25", "&", "%26", "=", "%3D", "+", "%2B", " ", "+", "(", "%28", ")", "%29", "'", "%27", "\"", "%22")
+	return r.Replace(s)
+}
+
+func fmtFills(fills []float64) string {
+	parts := make([]string, len(fills))
+	for i, f := range fills {
+		parts[i] = strconv.Itoa(int(100*f+0.5)) + "%"
+	}
+	return strings.Join(parts, " ")
+}
+
+// pageFills rasterises every page of the PDF at 30 dpi in grey and
+// returns, for each, the fraction of the page's height above its lowest
+// row holding ink (any pixel darker than light grey).
+func pageFills(t *testing.T, raster, pdf string) []float64 {
+	t.Helper()
+	prefix := filepath.Join(t.TempDir(), "page")
+	if out, err := exec.Command(raster, "-r", "30", "-gray", pdf, prefix).CombinedOutput(); err != nil {
+		t.Fatalf("pdftoppm: %v\n%s", err, out)
+	}
+	files, _ := filepath.Glob(prefix + "-*.pgm")
+	sort.Slice(files, func(i, j int) bool { return pageNumber(files[i]) < pageNumber(files[j]) })
+	if len(files) == 0 {
+		t.Fatal("pdftoppm wrote no pages")
+	}
+	fills := make([]float64, len(files))
+	for i, f := range files {
+		w, h, pix := readPGM(t, f)
+		last := -1
+		for y := 0; y < h; y++ {
+			for x := 0; x < w; x++ {
+				if pix[y*w+x] < 200 {
+					last = y
+					break
+				}
+			}
+		}
+		fills[i] = float64(last+1) / float64(h)
+	}
+	return fills
+}
+
+func pageNumber(path string) int {
+	base := strings.TrimSuffix(filepath.Base(path), ".pgm")
+	n, _ := strconv.Atoi(base[strings.LastIndex(base, "-")+1:])
+	return n
+}
+
+// readPGM reads a binary 8-bit PGM (P5), as pdftoppm -gray writes it.
+func readPGM(t *testing.T, path string) (w, h int, pix []byte) {
+	t.Helper()
+	data, err := os.ReadFile(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	r := bufio.NewReader(bytes.NewReader(data))
+	var magic string
+	var maxv int
+	if _, err := fmt.Fscan(r, &magic, &w, &h, &maxv); err != nil || magic != "P5" || maxv != 255 {
+		t.Fatalf("%s: not an 8-bit P5 PGM (%q %d×%d max %d): %v", path, magic, w, h, maxv, err)
+	}
+	if _, err := r.ReadByte(); err != nil { // the one whitespace after the header
+		t.Fatal(err)
+	}
+	pix, err = io.ReadAll(r)
+	if err != nil || len(pix) != w*h {
+		t.Fatalf("%s: %d pixels for %d×%d: %v", path, len(pix), w, h, err)
+	}
+	return w, h, pix
+}
+
+// pdfText is the PDF's text in reading order, by poppler's pdftotext.
+func pdfText(t *testing.T, pdf string) string {
+	t.Helper()
+	out, err := exec.Command("pdftotext", "-layout", pdf, "-").Output()
+	if err != nil {
+		t.Fatalf("pdftotext: %v", err)
+	}
+	return string(out)
+}

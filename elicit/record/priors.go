@@ -1,0 +1,43 @@
+package record
+
+import (
+	"encoding/csv"
+	"io"
+	"strconv"
+	"time"
+)
+
+// PriorsCSVHeader is the header of the agreed-priors CSV, a public
+// contract (`parley export --format priors` and the web download).
+var PriorsCSVHeader = []string{
+	"question_id", "quantity", "units", "lower", "upper", "alpha", "beta",
+	"mean", "sd", "q05", "q50", "q95", "source", "rationale", "agreed_at",
+}
+
+// WritePriorsCSV writes one row per question with an agreed prior, in
+// the questions' order: the prior in force, with the very numbers of the
+// JSON record (Prior's mean, SD and percentiles, shortest
+// round-trip decimals), RFC 4180 quoting (encoding/csv), and text cells
+// that a spreadsheet would read as a formula prefixed with ' as in
+// WriteCSV.
+func (r Record) WritePriorsCSV(w io.Writer) error {
+	cw := csv.NewWriter(w)
+	if err := cw.Write(PriorsCSVHeader); err != nil {
+		return err
+	}
+	for _, q := range r.Questions {
+		a := q.AgreedPrior
+		if a == nil {
+			continue
+		}
+		row := []string{strconv.FormatInt(q.ID, 10), cell(q.Quantity), cell(q.Units)}
+		row = append(row, floats(a.Dist.Lower, a.Dist.Upper, a.Dist.Alpha, a.Dist.Beta.Beta,
+			a.Mean, a.SD, a.Percentiles.P05, a.Percentiles.P50, a.Percentiles.P95)...)
+		row = append(row, string(a.Source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano))
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}

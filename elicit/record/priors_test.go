@@ -1,0 +1,78 @@
+package record
+
+import (
+	"bytes"
+	"encoding/csv"
+	"encoding/json"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
+)
+
+// The priors CSV: the exact header, one row per question with an agreed
+// prior (the current one), numbers equal to the JSON record's after a
+// round trip through text, RFC 4180 quoting of commas, quotes and line
+// breaks, and formula-looking text guarded.
+func TestWritePriorsCSV(t *testing.T) {
+	src := workshoptest.PumpSeals()
+	src.Questions[0].Quantity = "=share, \"first\" year"
+	src.Priors[1].Rationale = "agreed in discussion,\nafter \"round 2\""
+	r, err := Build(src, t0.Add(time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := r.WritePriorsCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at\n"
+	if !strings.HasPrefix(buf.String(), header) {
+		t.Fatalf("header:\n%s", buf.String())
+	}
+	// RFC 4180: the field with a comma, quotes and a line break is quoted
+	// whole, its quotes doubled.
+	if !strings.Contains(buf.String(), `"agreed in discussion,`+"\n"+`after ""round 2"""`) {
+		t.Errorf("rationale not quoted as RFC 4180 asks:\n%s", buf.String())
+	}
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	// The JSON record, read back as a client would.
+	js, err := json.Marshal(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back Record
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	var want [][]string
+	for _, q := range back.Questions {
+		if a := q.AgreedPrior; a != nil {
+			want = append(want, []string{strconv.FormatInt(q.ID, 10), q.Quantity, q.Units,
+				decimal(a.Dist.Lower), decimal(a.Dist.Upper), decimal(a.Dist.Alpha), decimal(a.Dist.Beta.Beta),
+				decimal(a.Mean), decimal(a.SD), decimal(a.Percentiles.P05), decimal(a.Percentiles.P50), decimal(a.Percentiles.P95),
+				string(a.Source), a.Rationale, a.At.UTC().Format(time.RFC3339Nano)})
+		}
+	}
+	if len(want) != 1 || len(rows) != 2 {
+		t.Fatalf("%d rows for %d agreed priors", len(rows)-1, len(want))
+	}
+	want[0][1] = "'" + want[0][1] // the guard against a formula
+	for i, w := range want[0] {
+		if rows[1][i] != w {
+			t.Errorf("%s = %q, want %q", PriorsCSVHeader[i], rows[1][i], w)
+		}
+	}
+	// The current prior, not the superseded one.
+	if rows[1][12] != string(workshop.PriorFromConsensus) {
+		t.Errorf("source %q, want the current (consensus) prior", rows[1][12])
+	}
+}
+
+func decimal(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
