@@ -9,7 +9,7 @@ import (
 
 	"github.com/chromedp/chromedp"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 )
 
@@ -115,7 +115,7 @@ func TestCalibrationScreenInBrowser(t *testing.T) {
 	// Reveal every true value and apply performance weights through the
 	// page's form.
 	qs, _ := site.DB.Questions(ctx, ws.ID)
-	var target elicit.Question
+	var target workshop.Question
 	for _, q := range qs {
 		if q.Calibration {
 			if err := site.DB.SetTrueValue(ctx, q.ID, *q.TrueValue, true, "answers in (invented)"); err != nil {
@@ -135,7 +135,7 @@ func TestCalibrationScreenInBrowser(t *testing.T) {
 	}
 	fac.sees("weights in force", "They are the performance weights shown above.", "Stored with them, so the record can reproduce them")
 	w, err := site.DB.Weights(ctx, ws.ID)
-	if err != nil || w.Scheme != elicit.WeightsPerformance || w.Basis == nil || len(w.Basis.CalibrationAnswers) != 14 {
+	if err != nil || w.Scheme != workshop.WeightsPerformance || w.Basis == nil || len(w.Basis.CalibrationAnswers) != 14 {
 		t.Fatalf("stored weights %+v, %v", w, err)
 	}
 

@@ -14,7 +14,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -27,10 +27,10 @@ var phoneWidths = []int64{360, 390, 414}
 // interval, chips, a repair time in days, and a calibration question.
 type deviceRig struct {
 	site    *site
-	ws      elicit.Workshop
-	qs      []elicit.Question
+	ws      workshop.Workshop
+	qs      []workshop.Question
 	links   map[string]string // expert name → private link
-	experts []elicit.Expert
+	experts []workshop.Expert
 }
 
 func newDeviceRig(t *testing.T) *deviceRig {
@@ -38,22 +38,22 @@ func newDeviceRig(t *testing.T) *deviceRig {
 	s := startSite(t)
 	ctx := context.Background()
 	g := &deviceRig{site: s, links: map[string]string{}}
-	g.ws = elicit.Workshop{Title: "Water mains survey (invented)", Purpose: "Invented: priors for the condition of a district's cast-iron mains.", Invented: true}
+	g.ws = workshop.Workshop{Title: "Water mains survey (invented)", Purpose: "Invented: priors for the condition of a district's cast-iron mains.", Invented: true}
 	if err := s.DB.CreateWorkshop(ctx, &g.ws); err != nil {
 		t.Fatal(err)
 	}
 	truth := 0.18
-	g.qs = []elicit.Question{
+	g.qs = []workshop.Question{
 		{Wording: "What proportion of the district's cast-iron mains will burst at least once in the next five years?", Quantity: "five-year burst proportion",
-			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault},
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault},
 		{Wording: "What proportion of the mains have lost more than a quarter of their wall?", Quantity: "wall-loss proportion",
-			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatInterval},
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: workshop.FormatInterval},
 		{Wording: "Where does the proportion of mains with internal corrosion lie? Place your chips.", Quantity: "corrosion proportion",
-			Lower: 0, Upper: 1, Format: elicit.FormatChips, BinEdges: elicit.DefaultBinEdges(0, 1), Chips: elicit.DefaultChips},
+			Lower: 0, Upper: 1, Format: workshop.FormatChips, BinEdges: workshop.DefaultBinEdges(0, 1), Chips: workshop.DefaultChips},
 		{Wording: "How many days does a burst main take to repair, from report to water back on?", Quantity: "repair time", Units: "days",
-			Lower: 0, Upper: 30, Format: elicit.FormatQuantiles, Probs: elicit.ProbsQuartiles},
+			Lower: 0, Upper: 30, Format: workshop.FormatQuantiles, Probs: workshop.ProbsQuartiles},
 		{Wording: "What proportion of last year's inspected mains needed a new lining?", Quantity: "relined proportion",
-			Units: "proportion of mains", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault, Calibration: true, TrueValue: &truth},
+			Units: "proportion of mains", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault, Calibration: true, TrueValue: &truth},
 	}
 	for i := range g.qs {
 		g.qs[i].WorkshopID = g.ws.ID
@@ -66,7 +66,7 @@ func newDeviceRig(t *testing.T) *deviceRig {
 		if err != nil {
 			t.Fatal(err)
 		}
-		e := elicit.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Water utility (invented)"}
+		e := workshop.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Water utility (invented)"}
 		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
 			t.Fatal(err)
 		}
@@ -74,7 +74,7 @@ func newDeviceRig(t *testing.T) *deviceRig {
 		g.links[n] = s.URL + "/e/" + tok + "/"
 	}
 	// Two experts have answered everything, so the third sees a panel.
-	answers := [][]elicit.Answer{
+	answers := [][]workshop.Answer{
 		{{Values: []float64{0.02, 0.06, 0.15}}, {Lowest: 0.05, Highest: 0.3, Best: 0.12, Confidence: 0.8}, {Counts: []int{2, 6, 7, 5, 2, 1, 1, 0}},
 			{Values: []float64{1.5, 3, 6}}, {Values: []float64{0.1, 0.2, 0.35}}},
 		{{Values: []float64{0.04, 0.09, 0.2}, Percent: true}, {Lowest: 0.1, Highest: 0.4, Best: 0.2, Confidence: 0.7}, {Counts: []int{0, 3, 8, 8, 3, 2, 0, 0}},
@@ -82,7 +82,7 @@ func newDeviceRig(t *testing.T) *deviceRig {
 	}
 	for i, as := range answers {
 		for j, a := range as {
-			rv := elicit.Revision{QuestionID: g.qs[j].ID, ExpertID: g.experts[i].ID, Answer: a, Reason: "From the district's own burst log (invented)."}
+			rv := workshop.Revision{QuestionID: g.qs[j].ID, ExpertID: g.experts[i].ID, Answer: a, Reason: "From the district's own burst log (invented)."}
 			if err := s.DB.SaveRevision(ctx, &rv); err != nil {
 				t.Fatal(err)
 			}
@@ -269,7 +269,7 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	if fmt.Sprint(chipsRev.Answer.Counts) != fmt.Sprint(want) {
 		t.Fatalf("the board saved %v, want %v", chipsRev.Answer.Counts, want)
 	}
-	plain, err := g.qs[2].Fit(elicit.Answer{Counts: want})
+	plain, err := g.qs[2].Fit(workshop.Answer{Counts: want})
 	if err != nil {
 		t.Fatal(err)
 	}

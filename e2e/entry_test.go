@@ -8,7 +8,7 @@ import (
 
 	"github.com/chromedp/chromedp"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 )
 
@@ -34,7 +34,7 @@ func TestFacilitatorEntryInBrowser(t *testing.T) {
 		t.Fatalf("entry page: %d", st)
 	}
 	fac.sees("entry page", "Q1 for Priya Raman", "How it reached you", "on Priya Raman's behalf")
-	fac.do("choose the paper form", chromedp.SetValue(chromedp.CSS(`form.answer-form select[name=channel]`), string(elicit.ChannelPaperForm)))
+	fac.do("choose the paper form", chromedp.SetValue(chromedp.CSS(`form.answer-form select[name=channel]`), string(workshop.ChannelPaperForm)))
 	typeValues(fac, "0.02", "0.05", "0.12")
 	livePreview(t, fac, 3, nil, "above 0.12")
 	fac.sees("entry preview", "What your numbers imply", "Beta(α = ")
@@ -45,7 +45,7 @@ func TestFacilitatorEntryInBrowser(t *testing.T) {
 	fac.sees("after saving", "Saved for Priya Raman", "facilitator, from a paper form")
 	revs, _ := site.DB.Revisions(ctx, ws[0].ID)
 	last := revs[len(revs)-1]
-	if last.EnteredBy != elicit.ByFacilitator || last.Channel != elicit.ChannelPaperForm || last.QuestionID != qs[0].ID {
+	if last.EnteredBy != workshop.ByFacilitator || last.Channel != workshop.ChannelPaperForm || last.QuestionID != qs[0].ID {
 		t.Fatalf("saved %+v", last)
 	}
 	priya := br.person("Priya Raman")

@@ -14,7 +14,7 @@ import (
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 )
 
@@ -90,7 +90,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	room := fac.tab("projector")
 	room.viewport(1920, 1080, false)
 	q1 := qs[0]
-	roomURL := func(q elicit.Question) string {
+	roomURL := func(q workshop.Question) string {
 		return wsURL + "q/" + strconv.FormatInt(q.ID, 10) + "/room"
 	}
 	if st := room.open(roomURL(q1)); st != http.StatusOK {
@@ -181,7 +181,7 @@ func linkOf(t *testing.T, links []web.DemoLink, name string) string {
 
 // noLeaks fails when the room view's page (text and markup) names an
 // expert, shows a weight, or a true value not yet revealed.
-func noLeaks(t *testing.T, p *person, experts []elicit.Expert, qs []elicit.Question) {
+func noLeaks(t *testing.T, p *person, experts []workshop.Expert, qs []workshop.Question) {
 	t.Helper()
 	html := eval[string](p, "the page's markup", `document.documentElement.outerHTML`)
 	text := p.text()

@@ -14,6 +14,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The whole workshop as the people in the room do it, in a real browser.
@@ -299,7 +300,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 }
 
 // agreedPriors reads every agreed prior of the workshop from the file.
-func agreedPriors(t *testing.T, site *site) []elicit.AgreedPrior {
+func agreedPriors(t *testing.T, site *site) []workshop.AgreedPrior {
 	t.Helper()
 	ws, err := site.DB.Workshops(context.Background())
 	if err != nil || len(ws) != 1 {
@@ -401,7 +402,7 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 			t.Fatalf("export question %d has id %d, want %d", qi, gq.ID, q.ID)
 		}
 		// The current judgement is each expert's latest revision.
-		latest := map[int64]elicit.Revision{}
+		latest := map[int64]workshop.Revision{}
 		for _, r := range revs {
 			if r.QuestionID == q.ID {
 				latest[r.ExpertID] = r
@@ -472,7 +473,7 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 		if ap == nil {
 			t.Fatalf("export: no agreed prior for question 1")
 		}
-		if ap.Source != string(elicit.PriorFromPool) || ap.Rationale != rationale || ap.Round != 2 {
+		if ap.Source != string(workshop.PriorFromPool) || ap.Rationale != rationale || ap.Round != 2 {
 			t.Errorf("export agreed prior: source %q, round %d, rationale %q", ap.Source, ap.Round, ap.Rationale)
 		}
 		near(t, "agreed alpha", ap.Dist.Alpha, rep.Dist.Alpha)
@@ -493,15 +494,15 @@ func checkExport(t *testing.T, site *site, raw []byte, rationale string, typed m
 
 // checkConsensus checks question 2's agreed prior: the Beta elicit fits
 // to the typed consensus quartiles, and R's.
-func checkConsensus(t *testing.T, q elicit.Question, ap *exportedPrior) {
+func checkConsensus(t *testing.T, q workshop.Question, ap *exportedPrior) {
 	t.Helper()
 	if ap == nil {
 		t.Fatalf("export: no agreed prior for question 2")
 	}
-	if ap.Source != string(elicit.PriorFromConsensus) || ap.Consensus == nil || !floatsEqual(ap.Consensus.Values, []float64{0.55, 0.68, 0.78}) {
+	if ap.Source != string(workshop.PriorFromConsensus) || ap.Consensus == nil || !floatsEqual(ap.Consensus.Values, []float64{0.55, 0.68, 0.78}) {
 		t.Fatalf("export: question 2's prior: source %q, consensus %+v", ap.Source, ap.Consensus)
 	}
-	want, err := q.Fit(elicit.Answer{Values: ap.Consensus.Values})
+	want, err := q.Fit(workshop.Answer{Values: ap.Consensus.Values})
 	if err != nil {
 		t.Fatal(err)
 	}

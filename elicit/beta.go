@@ -179,10 +179,12 @@ func (d ScaledBeta) Validate() error {
 	if err := d.Beta.Validate(); err != nil {
 		return err
 	}
-	return checkBounds(d.Lower, d.Upper)
+	return CheckBounds(d.Lower, d.Upper)
 }
 
-func checkBounds(lower, upper float64) error {
+// CheckBounds checks a quantity's bounds: finite, within ±1e300, lower
+// below upper, and upper − lower at least 1e-12 of their size.
+func CheckBounds(lower, upper float64) error {
 	if math.IsNaN(lower) || math.IsInf(lower, 0) {
 		return inputErr("lower", RuleFinite, "got %v", lower)
 	}

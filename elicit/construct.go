@@ -105,7 +105,7 @@ func (m ConstructionMethod) IsInterval() bool {
 // Every input is checked with its field named; a Beta with α or β
 // outside [MinPriorShape, MaxPriorShape] is refused.
 func Construct(in ConstructionInput) (Construction, error) {
-	if err := checkBounds(in.Lower, in.Upper); err != nil {
+	if err := CheckBounds(in.Lower, in.Upper); err != nil {
 		return Construction{}, err
 	}
 	lower, w := in.Lower, in.Upper-in.Lower

@@ -169,7 +169,7 @@ func checkInterval(low, high, coverage float64) error {
 // lowest < best < highest, all strictly inside (lower, upper), and c in
 // (0, 1).
 func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgement, error) {
-	if err := checkBounds(lower, upper); err != nil {
+	if err := CheckBounds(lower, upper); err != nil {
 		return Judgement{}, err
 	}
 	for _, c := range []struct {
@@ -216,7 +216,7 @@ func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgeme
 // edges finite and strictly increasing; one count per bin, none negative,
 // not all zero, and chips in at least MinChipBins bins.
 func FitChips(edges []float64, counts []int) (Fit, error) {
-	if err := checkEdges("edges", edges); err != nil {
+	if err := CheckEdges("edges", edges); err != nil {
 		return Fit{}, err
 	}
 	if len(counts) != len(edges)-1 {
@@ -258,9 +258,9 @@ func FitChips(edges []float64, counts []int) (Fit, error) {
 	return newFit(ScaledBeta{Beta: d, Lower: lower, Upper: upper}, p, inner, sse, resid), nil
 }
 
-// checkEdges checks bin edges: MinBins to MaxBins bins, finite and
+// CheckEdges checks bin edges: MinBins to MaxBins bins, finite and
 // strictly increasing.
-func checkEdges(field string, edges []float64) error {
+func CheckEdges(field string, edges []float64) error {
 	if bins := len(edges) - 1; bins < MinBins || bins > MaxBins {
 		return inputErr(field, RuleCount, "need %d to %d bins (%d to %d edges), got %d edges", MinBins, MaxBins, MinBins+1, MaxBins+1, len(edges))
 	}
@@ -274,7 +274,7 @@ func checkEdges(field string, edges []float64) error {
 		}
 	}
 	last := len(edges) - 1
-	if err := checkBounds(edges[0], edges[last]); err != nil {
+	if err := CheckBounds(edges[0], edges[last]); err != nil {
 		ie := *err.(*InputError)
 		ie.Field = fmt.Sprintf("%s[0]", field)
 		if ie.Field == "upper" || ie.Rule == RuleBoundsWidth {

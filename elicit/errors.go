@@ -1,7 +1,6 @@
 package elicit
 
 import (
-	"errors"
 	"fmt"
 )
 
@@ -29,7 +28,6 @@ const (
 	RuleLogPoolValid      Rule = "log pool parameters must be positive"
 	RuleUnknown           Rule = "unknown value"
 	RuleRequired          Rule = "is required"
-	RuleTooLong           Rule = "is too long"
 	RuleValueNearBound    Rule = "must lie at least 1e-10 of the range away from the lower and upper bounds"
 	RuleValuesTooClose    Rule = "is too close to the value before it to be told apart (they must differ by at least a millionth of their distance to the nearer bound)"
 	RuleProbRange         Rule = "must lie between 1e-12 and 1 − 1e-12"
@@ -58,19 +56,3 @@ func (e *InputError) Error() string {
 func inputErr(field string, rule Rule, format string, args ...any) *InputError {
 	return &InputError{Field: field, Rule: rule, Detail: fmt.Sprintf(format, args...)}
 }
-
-// Sentinel errors of the workshop domain, returned (wrapped) by storage.
-var (
-	ErrNotFound    = errors.New("not found")
-	ErrRoundClosed = errors.New("the round is closed")
-	// ErrAnswersFrozen is returned when an answer is saved to a
-	// calibration question whose true value has been revealed.
-	ErrAnswersFrozen = errors.New("the true value has been revealed, so the answers to this question are final")
-	// ErrRoundStillOpen is returned when a prior is agreed while the
-	// round is open and the facilitator has not confirmed it.
-	ErrRoundStillOpen = errors.New("the round is still open, so answers may still change")
-	// ErrRevoked is returned when a revoked expert's answer is saved.
-	ErrRevoked = errors.New("the expert's access has been revoked")
-	// ErrRetired is returned when an answer is saved to a retired question.
-	ErrRetired = errors.New("the question has been retired")
-)

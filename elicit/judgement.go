@@ -46,7 +46,7 @@ type Judgement struct {
 // broken one as an *InputError naming the field and the rule. This is the
 // one place where judgements are checked.
 func (j Judgement) Validate() error {
-	if err := checkBounds(j.Lower, j.Upper); err != nil {
+	if err := CheckBounds(j.Lower, j.Upper); err != nil {
 		return err
 	}
 	if len(j.Probs) != len(j.Values) {

@@ -1,7 +1,6 @@
 package elicit
 
 import (
-	"errors"
 	"fmt"
 	"math"
 )
@@ -96,6 +95,37 @@ func poolWeights(dists []ScaledBeta, weights []float64) ([]float64, error) {
 		return nil, inputErr("weights", RuleWeightsNotAllZero, "")
 	}
 	return Shares(weights), nil
+}
+
+// Shares turns unnormalised pool weights into each one's share of the
+// pool, w_i / Σ_j w_j, summing to 1. It divides by the largest weight
+// before summing, so weights near the largest float64 (four of 1e308)
+// give their true shares instead of an overflowed sum and shares of 0.
+// Every share shown or recorded (the facilitator's panel, the decision
+// log, the export) and the pool's own normalisation come from here.
+// It returns nil when a weight is negative, NaN or infinite, or no weight
+// is above zero: such weights have no shares.
+func Shares(raw []float64) []float64 {
+	var largest float64
+	for _, x := range raw {
+		if math.IsNaN(x) || math.IsInf(x, 0) || x < 0 {
+			return nil
+		}
+		largest = math.Max(largest, x)
+	}
+	if largest == 0 {
+		return nil
+	}
+	out := make([]float64, len(raw))
+	var sum float64
+	for i, x := range raw {
+		out[i] = x / largest
+		sum += out[i]
+	}
+	for i := range out {
+		out[i] /= sum
+	}
+	return out
 }
 
 // prefixField puts prefix in front of the field of an *InputError.
@@ -727,51 +757,4 @@ func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, err error
 		return Beta{}, 0, fmt.Errorf("%w: no local fit gave a number", ErrFitFailed)
 	}
 	return Beta{Alpha: math.Exp(th[0]), Beta: math.Exp(th[1])}, sse, nil
-}
-
-// PanelFit is one expert's standing on a question as the pool sees it:
-// their current fitted Beta (nil when they have none, or it failed) and
-// whether their access is revoked.
-type PanelFit struct {
-	ExpertID int64
-	Revoked  bool
-	Dist     *ScaledBeta
-}
-
-// PanelPool is the linear opinion pool of a question's panel: the pool,
-// and the experts in it (in the order given) with their normalised
-// weights.
-type PanelPool struct {
-	Pool    Pool
-	Experts []int64
-	Weights []float64 // normalised, one per expert in Experts
-}
-
-// ErrNoFits means no expert on the panel has a fitted judgement to pool.
-var ErrNoFits = errors.New("no expert has a fitted judgement on this question yet")
-
-// PoolPanel pools the panel's current fits under the workshop's weights:
-// every expert with a fit and unrevoked access, with weight w.Of(id). It
-// is the one rule by which the facilitator's panel and the exported
-// record form a question's pool.
-func PoolPanel(panel []PanelFit, w Weights) (PanelPool, error) {
-	var dists []ScaledBeta
-	var raw []float64
-	var ids []int64
-	for _, m := range panel {
-		if m.Dist == nil || m.Revoked {
-			continue
-		}
-		dists = append(dists, *m.Dist)
-		raw = append(raw, w.Of(m.ExpertID))
-		ids = append(ids, m.ExpertID)
-	}
-	if len(dists) == 0 {
-		return PanelPool{}, ErrNoFits
-	}
-	pool, err := LinearPool(dists, raw)
-	if err != nil {
-		return PanelPool{}, err
-	}
-	return PanelPool{Pool: pool, Experts: ids, Weights: Shares(raw)}, nil
 }

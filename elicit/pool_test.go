@@ -2,7 +2,6 @@ package elicit
 
 import (
 	"encoding/json"
-	"errors"
 	"math"
 	"math/rand/v2"
 	"slices"
@@ -590,40 +589,6 @@ func TestBestBetaFastPathMatchesGrid(t *testing.T) {
 		if ref := exhaustiveRepresentation(p, u, up); !(f <= ref*(1+1e-9)+1e-15) {
 			t.Errorf("%s: objective %.12g, exhaustive search %.12g", tc.name, f, ref)
 		}
-	}
-}
-
-// PoolPanel pools only experts with a fit and unrevoked access, under
-// Weights.Of, with weights normalised (worked by hand: 2 and 6 of 8).
-func TestPoolPanel(t *testing.T) {
-	a := ScaledBeta{Beta: Beta{2, 8}, Lower: 0, Upper: 1}
-	b := ScaledBeta{Beta: Beta{5, 5}, Lower: 0, Upper: 1}
-	c := ScaledBeta{Beta: Beta{9, 3}, Lower: 0, Upper: 1}
-	panel := []PanelFit{
-		{ExpertID: 1, Dist: &a},
-		{ExpertID: 2},                          // no fit
-		{ExpertID: 3, Dist: &b, Revoked: true}, // revoked
-		{ExpertID: 4, Dist: &c},
-	}
-	w := Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 3: 5, 4: 6}}
-	pp, err := PoolPanel(panel, w)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !slices.Equal(pp.Experts, []int64{1, 4}) || !slices.Equal(pp.Weights, []float64{0.25, 0.75}) {
-		t.Errorf("pooled experts %v weights %v, want [1 4] [0.25 0.75]", pp.Experts, pp.Weights)
-	}
-	want, _ := LinearPool([]ScaledBeta{a, c}, []float64{2, 6})
-	for _, x := range []float64{0.1, 0.4, 0.8} {
-		if got, ref := pp.Pool.CDF(x), want.CDF(x); got != ref {
-			t.Errorf("pool CDF(%v) = %v, want %v", x, got, ref)
-		}
-	}
-	if _, err := PoolPanel(panel[1:3], w); !errors.Is(err, ErrNoFits) {
-		t.Errorf("no pooled expert: %v, want ErrNoFits", err)
-	}
-	if pp, err := PoolPanel(panel, Weights{}); err != nil || !slices.Equal(pp.Weights, []float64{0.5, 0.5}) {
-		t.Errorf("equal weights: %v, %v", pp.Weights, err)
 	}
 }
 

@@ -5,7 +5,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 func benchPanel(b *testing.B) (*DB, panel) {
@@ -23,7 +23,7 @@ func BenchmarkSaveRevision(b *testing.B) {
 	db, p := benchPanel(b)
 	ctx := context.Background()
 	for b.Loop() {
-		r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+		r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
 		if err := db.SaveRevision(ctx, &r); err != nil {
 			b.Fatal(err)
 		}
@@ -38,7 +38,7 @@ func BenchmarkSaveRevisionParallel(b *testing.B) {
 	b.SetParallelism(8)
 	b.RunParallel(func(pb *testing.PB) {
 		for pb.Next() {
-			r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)}
+			r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)}
 			if err := db.SaveRevision(ctx, &r); err != nil {
 				b.Error(err)
 				return
@@ -52,7 +52,7 @@ func BenchmarkRevisions(b *testing.B) {
 	db, p := benchPanel(b)
 	ctx := context.Background()
 	for range 500 {
-		r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[2].ID, Answer: quantileAnswer(0.3)}
+		r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[2].ID, Answer: quantileAnswer(0.3)}
 		if err := db.SaveRevision(ctx, &r); err != nil {
 			b.Fatal(err)
 		}

@@ -5,7 +5,7 @@ import (
 	"sync"
 	"sync/atomic"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // An expert's every request reads the same few rows: the expert behind
@@ -66,16 +66,16 @@ func (c *rowCache[K, V]) put(k K, gen uint64, v V) {
 // rows is the DB's cache of rows read on every expert request.
 type rows struct {
 	gen       atomic.Uint64
-	workshops *rowCache[int64, elicit.Workshop]
-	questions *rowCache[int64, elicit.Question]
-	byToken   *rowCache[string, elicit.Expert]
+	workshops *rowCache[int64, workshop.Workshop]
+	questions *rowCache[int64, workshop.Question]
+	byToken   *rowCache[string, workshop.Expert]
 }
 
 func newRows() *rows {
 	return &rows{
-		workshops: newRowCache[int64, elicit.Workshop](1024),
-		questions: newRowCache[int64, elicit.Question](4096),
-		byToken:   newRowCache[string, elicit.Expert](4096),
+		workshops: newRowCache[int64, workshop.Workshop](1024),
+		questions: newRowCache[int64, workshop.Question](4096),
+		byToken:   newRowCache[string, workshop.Expert](4096),
 	}
 }
 
@@ -99,7 +99,7 @@ func remembered[K comparable, V any](r *rows, c *rowCache[K, V], k K, read func(
 
 // copyQuestion gives a caller its own slices and true value, so no caller
 // can change what another reads.
-func copyQuestion(q elicit.Question) elicit.Question {
+func copyQuestion(q workshop.Question) workshop.Question {
 	q.Probs = slices.Clone(q.Probs)
 	q.BinEdges = slices.Clone(q.BinEdges)
 	if q.TrueValue != nil {

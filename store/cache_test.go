@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Rows read on every expert request are remembered, and every kind of
@@ -39,7 +39,7 @@ func TestRememberedRowsFollowWrites(t *testing.T) {
 	}
 
 	gen := db.rows.gen.Load()
-	rv := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}
+	rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}
 	if err := db.SaveRevision(ctx, &rv); err != nil {
 		t.Fatal(err)
 	}

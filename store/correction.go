@@ -8,6 +8,7 @@ import (
 	"fmt"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Corrections a facilitator makes after a workshop has started. Each is
@@ -33,11 +34,11 @@ type questionChange struct {
 }
 
 // EditQuestion corrects question q.ID to q's definition, under
-// elicit.Question.CheckCorrection: with no answers any part may change;
+// workshop.Question.CheckCorrection: with no answers any part may change;
 // once answered only the wording, quantity and units. The answered check
 // and the update are one transaction, so an answer cannot slip in between.
 // The event keeps the changed fields before and after.
-func (db *DB) EditQuestion(ctx context.Context, q elicit.Question, reason string) error {
+func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason string) error {
 	probs, err := marshalList(q.Probs)
 	if err != nil {
 		return err
@@ -76,15 +77,15 @@ func (db *DB) EditQuestion(ctx context.Context, q elicit.Question, reason string
 		if err != nil {
 			return fmt.Errorf("store: edit question: %w", err)
 		}
-		return insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: old.WorkshopID, QuestionID: q.ID, Kind: elicit.EventQuestionEdited,
+		return insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: old.WorkshopID, QuestionID: q.ID, Kind: workshop.EventQuestionEdited,
 			At: now(), Reason: reason, Detail: string(detail),
 		})
 	})
 }
 
 // pick is the JSON object of q's named fields, by their JSON names.
-func pick(q elicit.Question, fields []string) json.RawMessage {
+func pick(q workshop.Question, fields []string) json.RawMessage {
 	var all map[string]json.RawMessage
 	b, _ := json.Marshal(q)
 	_ = json.Unmarshal(b, &all)
@@ -116,21 +117,21 @@ func (db *DB) SetQuestionRetired(ctx context.Context, questionID int64, retired 
 			if retired {
 				state = "retired"
 			}
-			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the question is already " + state}
+			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the question is already " + state}
 		}
 		if _, err := tx.ExecContext(ctx, `UPDATE questions SET retired = ? WHERE id = ?`, boolInt(retired), questionID); err != nil {
 			return fmt.Errorf("store: retire question: %w", err)
 		}
-		kind := elicit.EventQuestionRestored
+		kind := workshop.EventQuestionRestored
 		if retired {
-			kind = elicit.EventQuestionRetired
+			kind = workshop.EventQuestionRetired
 		}
-		return insertEvent(ctx, tx, elicit.Event{WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: kind, At: now(), Reason: reason})
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: kind, At: now(), Reason: reason})
 	})
 }
 
 // ReopenRound opens the workshop's last closed round again (the same
-// round number), under elicit.Workshop.CheckReopen, with its event.
+// round number), under workshop.Workshop.CheckReopen, with its event.
 func (db *DB) ReopenRound(ctx context.Context, workshopID int64, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		w, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, workshopID))
@@ -146,8 +147,8 @@ func (db *DB) ReopenRound(ctx context.Context, workshopID int64, reason string) 
 		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 1 WHERE id = ?`, workshopID); err != nil {
 			return fmt.Errorf("store: reopen round: %w", err)
 		}
-		return insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: workshopID, Kind: elicit.EventRoundReopened, At: now(), Reason: reason,
+		return insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: workshopID, Kind: workshop.EventRoundReopened, At: now(), Reason: reason,
 			Detail: fmt.Sprintf(`{"round":%d}`, w.Round),
 		})
 	})
@@ -169,15 +170,15 @@ func (db *DB) SetArchived(ctx context.Context, workshopID int64, archived bool, 
 			if archived {
 				state = "archived"
 			}
-			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the workshop is already " + state}
+			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the workshop is already " + state}
 		}
 		at := now()
 		if archived && w.Open {
 			if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 0 WHERE id = ?`, workshopID); err != nil {
 				return fmt.Errorf("store: archive: %w", err)
 			}
-			if err := insertEvent(ctx, tx, elicit.Event{
-				WorkshopID: workshopID, Kind: elicit.EventRoundClosed, At: at, Reason: "closed to archive the workshop",
+			if err := insertEvent(ctx, tx, workshop.Event{
+				WorkshopID: workshopID, Kind: workshop.EventRoundClosed, At: at, Reason: "closed to archive the workshop",
 				Detail: fmt.Sprintf(`{"round":%d}`, w.Round),
 			}); err != nil {
 				return err
@@ -186,18 +187,18 @@ func (db *DB) SetArchived(ctx context.Context, workshopID int64, archived bool, 
 		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET archived = ? WHERE id = ?`, boolInt(archived), workshopID); err != nil {
 			return fmt.Errorf("store: archive: %w", err)
 		}
-		kind := elicit.EventWorkshopRestored
+		kind := workshop.EventWorkshopRestored
 		if archived {
-			kind = elicit.EventWorkshopArchived
+			kind = workshop.EventWorkshopArchived
 		}
-		return insertEvent(ctx, tx, elicit.Event{WorkshopID: workshopID, Kind: kind, At: at, Reason: reason})
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: workshopID, Kind: kind, At: at, Reason: reason})
 	})
 }
 
 // DeleteWorkshop removes a workshop that has no answers and no agreed
 // priors, with its questions, panel, events and weight sets, leaving a
 // row in workshop_deletions with its title, time and reason. A workshop
-// with answers or agreed priors is refused (elicit.RuleHasAnswers): it is
+// with answers or agreed priors is refused (workshop.RuleHasAnswers): it is
 // archived instead, since its record must stay whole. The append-only
 // triggers let a workshop's events and weight sets go only while its
 // deletion row is pending, inside this transaction.
@@ -218,7 +219,7 @@ func (db *DB) DeleteWorkshop(ctx context.Context, workshopID int64, reason strin
 			return fmt.Errorf("store: delete workshop: %w", err)
 		}
 		if answers > 0 || priors > 0 {
-			return &elicit.InputError{Field: "action", Rule: elicit.RuleHasAnswers,
+			return &elicit.InputError{Field: "action", Rule: workshop.RuleHasAnswers,
 				Detail: fmt.Sprintf("%d answers, %d agreed priors", answers, priors)}
 		}
 		res, err := tx.ExecContext(ctx,
@@ -249,17 +250,17 @@ func (db *DB) DeleteWorkshop(ctx context.Context, workshopID int64, reason strin
 
 // DeletedWorkshops lists the workshops deleted from this database, oldest
 // first.
-func (db *DB) DeletedWorkshops(ctx context.Context) ([]elicit.DeletedWorkshop, error) {
+func (db *DB) DeletedWorkshops(ctx context.Context) ([]workshop.DeletedWorkshop, error) {
 	rows, err := db.r.QueryContext(ctx,
 		`SELECT workshop_id, title, reason, at FROM workshop_deletions WHERE pending = 0 ORDER BY id`)
 	if err != nil {
 		return nil, fmt.Errorf("store: deleted workshops: %w", err)
 	}
 	defer rows.Close()
-	var out []elicit.DeletedWorkshop
+	var out []workshop.DeletedWorkshop
 	for rows.Next() {
 		var (
-			d  elicit.DeletedWorkshop
+			d  workshop.DeletedWorkshop
 			at string
 		)
 		if err := rows.Scan(&d.WorkshopID, &d.Title, &d.Reason, &at); err != nil {
@@ -298,21 +299,21 @@ func (db *DB) SetReasonWithheld(ctx context.Context, revisionID int64, withheld 
 			return fmt.Errorf("store: withhold reason: %w", err)
 		}
 		if text == "" {
-			return &elicit.InputError{Field: "revision", Rule: elicit.RuleNothingChanged, Detail: "the revision has no reason"}
+			return &elicit.InputError{Field: "revision", Rule: workshop.RuleNothingChanged, Detail: "the revision has no reason"}
 		}
 		if (current == 1) == withheld {
-			return &elicit.InputError{Field: "action", Rule: elicit.RuleNothingChanged, Detail: "the reason is already " + map[bool]string{true: "withheld", false: "shown"}[withheld]}
+			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the reason is already " + map[bool]string{true: "withheld", false: "shown"}[withheld]}
 		}
 		at := now()
 		if _, err := tx.ExecContext(ctx, `INSERT INTO reason_decisions (revision_id, withheld, reason, at) VALUES (?, ?, ?, ?)`,
 			revisionID, boolInt(withheld), reason, formatTime(at)); err != nil {
 			return fmt.Errorf("store: withhold reason: %w", err)
 		}
-		kind := elicit.EventReasonReleased
+		kind := workshop.EventReasonReleased
 		if withheld {
-			kind = elicit.EventReasonWithheld
+			kind = workshop.EventReasonWithheld
 		}
-		return insertEvent(ctx, tx, elicit.Event{
+		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: workshopID, QuestionID: questionID, Kind: kind, At: at, Reason: reason,
 			Detail: fmt.Sprintf(`{"revision_id":%d}`, revisionID),
 		})

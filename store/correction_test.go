@@ -8,9 +8,10 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-func lastEvent(t *testing.T, db *DB, workshopID int64) elicit.Event {
+func lastEvent(t *testing.T, db *DB, workshopID int64) workshop.Event {
 	t.Helper()
 	evs, err := db.Events(context.Background(), workshopID)
 	if err != nil || len(evs) == 0 {
@@ -40,19 +41,19 @@ func TestEditQuestionBeforeAndAfterAnswers(t *testing.T) {
 	if err := json.Unmarshal([]byte(ev.Detail), &change); err != nil {
 		t.Fatal(err)
 	}
-	if ev.Kind != elicit.EventQuestionEdited || ev.Reason != "typo and a tighter range" || ev.QuestionID != q.ID ||
+	if ev.Kind != workshop.EventQuestionEdited || ev.Reason != "typo and a tighter range" || ev.QuestionID != q.ID ||
 		strings.Join(change.Fields, ",") != "wording,upper,probs" ||
 		!strings.Contains(string(change.Before), q.Wording) || !strings.Contains(string(change.After), next.Wording) {
 		t.Fatalf("edit event %+v (detail %s)", ev, ev.Detail)
 	}
 
 	// Once answered, only the wording, quantity and units.
-	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID,
-		Answer: elicit.Answer{Values: []float64{0.05, 0.1, 0.2}}}))
+	must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID,
+		Answer: workshop.Answer{Values: []float64{0.05, 0.1, 0.2}}}))
 	locked := got
 	locked.Upper = 0.9
 	var ie *elicit.InputError
-	if err := db.EditQuestion(ctx, locked, "widen"); !errors.As(err, &ie) || ie.Field != "upper" || ie.Rule != elicit.RuleLockedAfterAnswers {
+	if err := db.EditQuestion(ctx, locked, "widen"); !errors.As(err, &ie) || ie.Field != "upper" || ie.Rule != workshop.RuleLockedAfterAnswers {
 		t.Fatalf("changing the bounds after an answer: %v, want upper locked", err)
 	}
 	if again, _ := db.Question(ctx, q.ID); again.Upper != 0.5 {
@@ -65,7 +66,7 @@ func TestEditQuestionBeforeAndAfterAnswers(t *testing.T) {
 	if again, _ := db.Question(ctx, q.ID); again.Quantity != text.Quantity || again.Units != text.Units {
 		t.Fatalf("text correction after answers not saved: %+v", again)
 	}
-	if err := db.EditQuestion(ctx, text, "again"); !errors.As(err, &ie) || ie.Rule != elicit.RuleNothingChanged {
+	if err := db.EditQuestion(ctx, text, "again"); !errors.As(err, &ie) || ie.Rule != workshop.RuleNothingChanged {
 		t.Fatalf("an edit that changes nothing: %v", err)
 	}
 }
@@ -79,18 +80,18 @@ func TestRetireAndRestoreQuestion(t *testing.T) {
 	if got, _ := db.Question(ctx, q.ID); !got.Retired {
 		t.Fatal("not retired")
 	}
-	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventQuestionRetired || ev.Reason != "asked twice by mistake" {
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != workshop.EventQuestionRetired || ev.Reason != "asked twice by mistake" {
 		t.Fatalf("retire event %+v", ev)
 	}
-	err := db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)})
-	if !errors.Is(err, elicit.ErrRetired) {
+	err := db.SaveRevision(ctx, &workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)})
+	if !errors.Is(err, workshop.ErrRetired) {
 		t.Fatalf("save to a retired question: %v", err)
 	}
 	must(t, db.SetQuestionRetired(ctx, q.ID, false, "needed after all"))
 	if got, _ := db.Question(ctx, q.ID); got.Retired {
 		t.Fatal("not restored")
 	}
-	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventQuestionRestored {
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != workshop.EventQuestionRestored {
 		t.Fatalf("restore event %+v", ev)
 	}
 }
@@ -109,22 +110,22 @@ func TestReopenRound(t *testing.T) {
 	if !w.Open || w.Round != 1 {
 		t.Fatalf("after reopening: round %d open %v", w.Round, w.Open)
 	}
-	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventRoundReopened || ev.Detail != `{"round":1}` {
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != workshop.EventRoundReopened || ev.Detail != `{"round":1}` {
 		t.Fatalf("reopen event %+v", ev)
 	}
-	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
+	must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
 }
 
 func TestArchiveAndDelete(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
-	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsEqual, Reason: "start"}))
+	must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}))
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsEqual, Reason: "start"}))
 
 	// A workshop with answers cannot be deleted.
 	var ie *elicit.InputError
-	if err := db.DeleteWorkshop(ctx, p.w.ID, "oops"); !errors.As(err, &ie) || ie.Rule != elicit.RuleHasAnswers {
+	if err := db.DeleteWorkshop(ctx, p.w.ID, "oops"); !errors.As(err, &ie) || ie.Rule != workshop.RuleHasAnswers {
 		t.Fatalf("deleting a workshop with answers: %v", err)
 	}
 	// It is archived instead: the round closes, saves stop, rounds stay shut.
@@ -133,18 +134,18 @@ func TestArchiveAndDelete(t *testing.T) {
 	if !w.Archived || w.Open {
 		t.Fatalf("archived workshop: %+v", w)
 	}
-	err := db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)})
-	if !errors.Is(err, elicit.ErrRoundClosed) {
+	err := db.SaveRevision(ctx, &workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)})
+	if !errors.Is(err, workshop.ErrRoundClosed) {
 		t.Fatalf("save to an archived workshop: %v", err)
 	}
-	if err := db.SetRound(ctx, p.w.ID, 2, true, "more"); !errors.As(err, &ie) || ie.Rule != elicit.RuleArchived {
+	if err := db.SetRound(ctx, p.w.ID, 2, true, "more"); !errors.As(err, &ie) || ie.Rule != workshop.RuleArchived {
 		t.Fatalf("opening a round of an archived workshop: %v", err)
 	}
-	if err := db.ReopenRound(ctx, p.w.ID, "more"); !errors.As(err, &ie) || ie.Rule != elicit.RuleArchived {
+	if err := db.ReopenRound(ctx, p.w.ID, "more"); !errors.As(err, &ie) || ie.Rule != workshop.RuleArchived {
 		t.Fatalf("reopening a round of an archived workshop: %v", err)
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
-	if n := len(evs); evs[n-2].Kind != elicit.EventRoundClosed || evs[n-1].Kind != elicit.EventWorkshopArchived {
+	if n := len(evs); evs[n-2].Kind != workshop.EventRoundClosed || evs[n-1].Kind != workshop.EventWorkshopArchived {
 		t.Fatalf("archive events: %+v", evs[n-2:])
 	}
 	must(t, db.SetArchived(ctx, p.w.ID, false, "one more question"))
@@ -155,16 +156,16 @@ func TestArchiveAndDelete(t *testing.T) {
 	// A workshop with no answers is deleted outright, with its tombstone;
 	// other workshops keep every row.
 	empty := seed(t, db)
-	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: empty.w.ID, Scheme: elicit.WeightsEqual, Reason: "start"}))
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: empty.w.ID, Scheme: workshop.WeightsEqual, Reason: "start"}))
 	token := []byte("hash-" + "x")
-	e := elicit.Expert{WorkshopID: empty.w.ID, Name: "Late"}
+	e := workshop.Expert{WorkshopID: empty.w.ID, Name: "Late"}
 	must(t, db.AddExpert(ctx, &e, token))
 	before, _ := db.Events(ctx, p.w.ID)
 	must(t, db.DeleteWorkshop(ctx, empty.w.ID, "created twice by mistake"))
-	if _, err := db.Workshop(ctx, empty.w.ID); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.Workshop(ctx, empty.w.ID); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("deleted workshop still read: %v", err)
 	}
-	if _, err := db.ExpertByToken(ctx, token); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.ExpertByToken(ctx, token); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("a deleted workshop's expert link still works: %v", err)
 	}
 	for _, table := range []string{"questions", "experts", "events", "weight_sets", "panel_salts"} {
@@ -197,10 +198,10 @@ func TestWithholdReason(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	rv := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3),
+	rv := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3),
 		Reason: "As Dr Example at the plant told me privately (invented)"}
 	must(t, db.SaveRevision(ctx, &rv))
-	plain := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)}
+	plain := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.3)}
 	must(t, db.SaveRevision(ctx, &plain))
 	var ie *elicit.InputError
 	if err := db.SetReasonWithheld(ctx, rv.ID, true, ""); !errors.As(err, &ie) || ie.Field != "reason" {
@@ -214,7 +215,7 @@ func TestWithholdReason(t *testing.T) {
 	if !revs[0].ReasonWithheld || revs[0].Reason != rv.Reason || revs[1].ReasonWithheld {
 		t.Fatalf("withheld state read back as %+v", revs)
 	}
-	if ev := lastEvent(t, db, p.w.ID); ev.Kind != elicit.EventReasonWithheld || ev.Detail != `{"revision_id":`+itoa(rv.ID)+`}` {
+	if ev := lastEvent(t, db, p.w.ID); ev.Kind != workshop.EventReasonWithheld || ev.Detail != `{"revision_id":`+itoa(rv.ID)+`}` {
 		t.Fatalf("withhold event %+v", ev)
 	}
 	must(t, db.SetReasonWithheld(ctx, rv.ID, false, "the person agreed to be named"))
@@ -234,7 +235,7 @@ func TestWorkshopEditAndHiddenTruthAreRecorded(t *testing.T) {
 	w.Title = "Pump seal failures, renamed (invented)"
 	must(t, db.UpdateWorkshop(ctx, w))
 	ev := lastEvent(t, db, p.w.ID)
-	if ev.Kind != elicit.EventWorkshopEdited || !strings.Contains(ev.Detail, `"fields":["title"]`) ||
+	if ev.Kind != workshop.EventWorkshopEdited || !strings.Contains(ev.Detail, `"fields":["title"]`) ||
 		!strings.Contains(ev.Detail, "Pump seal failures (invented)") {
 		t.Fatalf("edit event %+v", ev)
 	}
@@ -245,12 +246,12 @@ func TestWorkshopEditAndHiddenTruthAreRecorded(t *testing.T) {
 	}
 	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.2718, false, "from the audit"))
 	ev = lastEvent(t, db, p.w.ID)
-	if ev.Kind != elicit.EventTruthEntered || strings.Contains(ev.Detail+ev.Reason, "0.2718") {
+	if ev.Kind != workshop.EventTruthEntered || strings.Contains(ev.Detail+ev.Reason, "0.2718") {
 		t.Fatalf("hidden truth event %+v", ev)
 	}
 }
 
-func mustEvents(t *testing.T, db *DB, ws int64) []elicit.Event {
+func mustEvents(t *testing.T, db *DB, ws int64) []workshop.Event {
 	t.Helper()
 	evs, err := db.Events(context.Background(), ws)
 	if err != nil {

@@ -12,8 +12,7 @@ import (
 	"time"
 
 	_ "github.com/mattn/go-sqlite3" // registers the "sqlite3" driver
-
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // DB is a Parley database. Writes go through one connection, each in an
@@ -183,7 +182,7 @@ func boolInt(b bool) int {
 	return 0
 }
 
-// notFound wraps elicit.ErrNotFound with what was looked for.
+// notFound wraps workshop.ErrNotFound with what was looked for.
 func notFound(what string, id int64) error {
-	return fmt.Errorf("store: %s %d: %w", what, id, elicit.ErrNotFound)
+	return fmt.Errorf("store: %s %d: %w", what, id, workshop.ErrNotFound)
 }

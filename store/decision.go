@@ -11,6 +11,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // SetWeights records the facilitator's pool weights for a workshop with
@@ -19,7 +20,7 @@ import (
 // the workshop's panel; weights must be finite, not negative and, unless
 // the scheme is equal, not all zero; only performance weights have a
 // basis. It sets w.ID and w.At.
-func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
+func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 	if err := checkWeights(*w); err != nil {
 		return err
 	}
@@ -43,7 +44,7 @@ func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 			var ws int64
 			err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM experts WHERE id = ?`, id).Scan(&ws)
 			if errors.Is(err, sql.ErrNoRows) || (err == nil && ws != w.WorkshopID) {
-				return fmt.Errorf("store: set weights: expert %d of workshop %d: %w", id, w.WorkshopID, elicit.ErrNotFound)
+				return fmt.Errorf("store: set weights: expert %d of workshop %d: %w", id, w.WorkshopID, workshop.ErrNotFound)
 			}
 			if err != nil {
 				return fmt.Errorf("store: set weights: %w", err)
@@ -54,8 +55,8 @@ func (db *DB) SetWeights(ctx context.Context, w *elicit.Weights) error {
 			return fmt.Errorf("store: set weights: %w", err)
 		}
 		detail := fmt.Sprintf(`{"scheme":%q,"by_expert":%s}`, w.Scheme, byExpert)
-		if err := insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: w.WorkshopID, Kind: elicit.EventWeightsSet, At: at, Reason: w.Reason, Detail: detail,
+		if err := insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: w.WorkshopID, Kind: workshop.EventWeightsSet, At: at, Reason: w.Reason, Detail: detail,
 		}); err != nil {
 			return err
 		}
@@ -81,7 +82,7 @@ func insertWeights(ctx context.Context, tx *sql.Tx, workshopID int64, scheme, by
 	return res.LastInsertId()
 }
 
-func marshalBasis(b *elicit.WeightBasis) (any, error) {
+func marshalBasis(b *workshop.WeightBasis) (any, error) {
 	if b == nil {
 		return nil, nil
 	}
@@ -92,9 +93,9 @@ func marshalBasis(b *elicit.WeightBasis) (any, error) {
 	return string(out), nil
 }
 
-func checkWeights(w elicit.Weights) error {
+func checkWeights(w workshop.Weights) error {
 	switch w.Scheme {
-	case elicit.WeightsEqual, elicit.WeightsCustom, elicit.WeightsPerformance:
+	case workshop.WeightsEqual, workshop.WeightsCustom, workshop.WeightsPerformance:
 	default:
 		return &elicit.InputError{Field: "scheme", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", w.Scheme)}
 	}
@@ -110,10 +111,10 @@ func checkWeights(w elicit.Weights) error {
 		}
 		total += v
 	}
-	if w.Scheme != elicit.WeightsEqual && total == 0 {
+	if w.Scheme != workshop.WeightsEqual && total == 0 {
 		return &elicit.InputError{Field: "weights", Rule: elicit.RuleWeightsNotAllZero}
 	}
-	if w.Basis != nil && w.Scheme != elicit.WeightsPerformance {
+	if w.Basis != nil && w.Scheme != workshop.WeightsPerformance {
 		return &elicit.InputError{Field: "basis", Rule: elicit.RuleUnknown, Detail: "only performance weights have a basis"}
 	}
 	return nil
@@ -130,21 +131,21 @@ func sortedExperts(m map[int64]float64) []int64 {
 
 // Weights returns a workshop's current pool weights: the latest set, or
 // equal weights (At zero) when none was ever set.
-func (db *DB) Weights(ctx context.Context, workshopID int64) (elicit.Weights, error) {
+func (db *DB) Weights(ctx context.Context, workshopID int64) (workshop.Weights, error) {
 	return readWeights(ctx, db.r, workshopID)
 }
 
 const weightColumns = `id, workshop_id, scheme, by_expert, reason, at, basis`
 
-func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weights, error) {
+func readWeights(ctx context.Context, db querier, workshopID int64) (workshop.Weights, error) {
 	row := db.QueryRowContext(ctx,
 		`SELECT `+weightColumns+` FROM weight_sets WHERE workshop_id = ? ORDER BY id DESC LIMIT 1`, workshopID)
 	w, err := scanWeights(row)
 	if errors.Is(err, sql.ErrNoRows) {
 		if _, err := readWorkshop(ctx, db, workshopID); err != nil {
-			return elicit.Weights{}, err
+			return workshop.Weights{}, err
 		}
-		return elicit.Weights{WorkshopID: workshopID, Scheme: elicit.WeightsEqual}, nil
+		return workshop.Weights{WorkshopID: workshopID, Scheme: workshop.WeightsEqual}, nil
 	}
 	return w, err
 }
@@ -152,11 +153,11 @@ func readWeights(ctx context.Context, db querier, workshopID int64) (elicit.Weig
 // WeightHistory returns every weight set applied to a workshop, oldest
 // first, each with its basis; the last is in force. It is empty when no
 // set was ever applied.
-func (db *DB) WeightHistory(ctx context.Context, workshopID int64) ([]elicit.Weights, error) {
+func (db *DB) WeightHistory(ctx context.Context, workshopID int64) ([]workshop.Weights, error) {
 	return readWeightHistory(ctx, db.r, workshopID)
 }
 
-func readWeightHistory(ctx context.Context, db querier, workshopID int64) ([]elicit.Weights, error) {
+func readWeightHistory(ctx context.Context, db querier, workshopID int64) ([]workshop.Weights, error) {
 	if _, err := readWorkshop(ctx, db, workshopID); err != nil {
 		return nil, err
 	}
@@ -165,7 +166,7 @@ func readWeightHistory(ctx context.Context, db querier, workshopID int64) ([]eli
 		return nil, fmt.Errorf("store: weight history: %w", err)
 	}
 	defer rows.Close()
-	out := []elicit.Weights{}
+	out := []workshop.Weights{}
 	for rows.Next() {
 		w, err := scanWeights(rows)
 		if err != nil {
@@ -176,30 +177,30 @@ func readWeightHistory(ctx context.Context, db querier, workshopID int64) ([]eli
 	return out, rows.Err()
 }
 
-func scanWeights(row interface{ Scan(...any) error }) (elicit.Weights, error) {
+func scanWeights(row interface{ Scan(...any) error }) (workshop.Weights, error) {
 	var (
-		w                    elicit.Weights
+		w                    workshop.Weights
 		scheme, byExpert, at string
 		basis                sql.NullString
 	)
 	err := row.Scan(&w.ID, &w.WorkshopID, &scheme, &byExpert, &w.Reason, &at, &basis)
 	if errors.Is(err, sql.ErrNoRows) {
-		return elicit.Weights{}, err
+		return workshop.Weights{}, err
 	}
 	if err != nil {
-		return elicit.Weights{}, fmt.Errorf("store: weights: %w", err)
+		return workshop.Weights{}, fmt.Errorf("store: weights: %w", err)
 	}
-	w.Scheme = elicit.WeightScheme(scheme)
+	w.Scheme = workshop.WeightScheme(scheme)
 	if err := json.Unmarshal([]byte(byExpert), &w.ByExpert); err != nil {
-		return elicit.Weights{}, fmt.Errorf("store: bad stored weights %q: %w", byExpert, err)
+		return workshop.Weights{}, fmt.Errorf("store: bad stored weights %q: %w", byExpert, err)
 	}
 	if len(w.ByExpert) == 0 {
 		w.ByExpert = nil
 	}
 	if basis.Valid {
-		w.Basis = new(elicit.WeightBasis)
+		w.Basis = new(workshop.WeightBasis)
 		if err := json.Unmarshal([]byte(basis.String), w.Basis); err != nil {
-			return elicit.Weights{}, fmt.Errorf("store: bad stored weight basis of set %d: %w", w.ID, err)
+			return workshop.Weights{}, fmt.Errorf("store: bad stored weight basis of set %d: %w", w.ID, err)
 		}
 	}
 	w.At, err = parseTime(at)
@@ -211,13 +212,13 @@ func scanWeights(row interface{ Scan(...any) error }) (elicit.Weights, error) {
 // sets p's ID, Round and At. While the round is open, answers can still
 // change after the agreement, so the caller must say it knows
 // (p.RoundOpen); otherwise the prior is refused with an error wrapping
-// elicit.ErrRoundStillOpen. p.RoundOpen is stored as the round's real state.
-func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
+// workshop.ErrRoundStillOpen. p.RoundOpen is stored as the round's real state.
+func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 	if err := p.Dist.Validate(); err != nil {
 		return err
 	}
 	switch p.Source {
-	case elicit.PriorFromPool, elicit.PriorFromConsensus:
+	case workshop.PriorFromPool, workshop.PriorFromConsensus:
 	default:
 		return &elicit.InputError{Field: "source", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", p.Source)}
 	}
@@ -242,7 +243,7 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 			return fmt.Errorf("store: agree prior: %w", err)
 		}
 		if open == 1 && !p.RoundOpen {
-			return fmt.Errorf("store: agree prior in round %d: %w", round, elicit.ErrRoundStillOpen)
+			return fmt.Errorf("store: agree prior in round %d: %w", round, workshop.ErrRoundStillOpen)
 		}
 		// The weights in force, so a prior from the pool can be traced to
 		// the weights that made the pool.
@@ -257,12 +258,12 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 			return err
 		}
 		detail, _ := json.Marshal(struct {
-			Source    elicit.PriorSource `json:"source"`
-			Dist      elicit.ScaledBeta  `json:"dist"`
-			RoundOpen bool               `json:"while_round_open,omitempty"`
+			Source    workshop.PriorSource `json:"source"`
+			Dist      elicit.ScaledBeta    `json:"dist"`
+			RoundOpen bool                 `json:"while_round_open,omitempty"`
 		}{p.Source, p.Dist, stored.RoundOpen})
-		if err := insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: elicit.EventPriorAgreed,
+		if err := insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: workshop.EventPriorAgreed,
 			At: at, Reason: p.Rationale, Detail: string(detail),
 		}); err != nil {
 			return err
@@ -272,7 +273,7 @@ func (db *DB) AgreePrior(ctx context.Context, p *elicit.AgreedPrior) error {
 	})
 }
 
-func marshalConsensus(a *elicit.Answer) (any, error) {
+func marshalConsensus(a *workshop.Answer) (any, error) {
 	if a == nil {
 		return nil, nil
 	}
@@ -283,7 +284,7 @@ func marshalConsensus(a *elicit.Answer) (any, error) {
 	return string(b), nil
 }
 
-func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensus any) (int64, error) {
+func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consensus any) (int64, error) {
 	res, err := tx.ExecContext(ctx,
 		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, weight_set_id, at)
 		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
@@ -301,11 +302,11 @@ func insertPrior(ctx context.Context, tx *sql.Tx, p elicit.AgreedPrior, consensu
 
 // AgreedPriors returns every prior agreed on a workshop's questions,
 // oldest first; per question the latest is the current one.
-func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]elicit.AgreedPrior, error) {
+func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]workshop.AgreedPrior, error) {
 	return readPriors(ctx, db.r, workshopID)
 }
 
-func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.AgreedPrior, error) {
+func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.AgreedPrior, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
 		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at
@@ -315,10 +316,10 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.Agr
 		return nil, fmt.Errorf("store: agreed priors: %w", err)
 	}
 	defer rows.Close()
-	var ps []elicit.AgreedPrior
+	var ps []workshop.AgreedPrior
 	for rows.Next() {
 		var (
-			p          elicit.AgreedPrior
+			p          workshop.AgreedPrior
 			source, at string
 			consensus  sql.NullString
 			roundOpen  int
@@ -328,10 +329,10 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]elicit.Agr
 			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at); err != nil {
 			return nil, fmt.Errorf("store: read agreed prior: %w", err)
 		}
-		p.Source = elicit.PriorSource(source)
+		p.Source = workshop.PriorSource(source)
 		p.RoundOpen, p.WeightSetID = roundOpen == 1, set.Int64
 		if consensus.Valid {
-			p.Consensus = new(elicit.Answer)
+			p.Consensus = new(workshop.Answer)
 			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {
 				return nil, fmt.Errorf("store: bad stored consensus %q: %w", consensus.String, err)
 			}

@@ -5,12 +5,12 @@ import (
 	"database/sql"
 	"fmt"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // insertEvent writes one event inside the transaction of the decision it
 // records.
-func insertEvent(ctx context.Context, tx *sql.Tx, e elicit.Event) error {
+func insertEvent(ctx context.Context, tx *sql.Tx, e workshop.Event) error {
 	var question any
 	if e.QuestionID != 0 {
 		question = e.QuestionID
@@ -25,11 +25,11 @@ func insertEvent(ctx context.Context, tx *sql.Tx, e elicit.Event) error {
 }
 
 // Events returns a workshop's events, oldest first.
-func (db *DB) Events(ctx context.Context, workshopID int64) ([]elicit.Event, error) {
+func (db *DB) Events(ctx context.Context, workshopID int64) ([]workshop.Event, error) {
 	return readEvents(ctx, db.r, workshopID)
 }
 
-func readEvents(ctx context.Context, db querier, workshopID int64) ([]elicit.Event, error) {
+func readEvents(ctx context.Context, db querier, workshopID int64) ([]workshop.Event, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT id, workshop_id, question_id, kind, at, reason, detail FROM events
 		 WHERE workshop_id = ? ORDER BY id`, workshopID)
@@ -37,17 +37,17 @@ func readEvents(ctx context.Context, db querier, workshopID int64) ([]elicit.Eve
 		return nil, fmt.Errorf("store: events: %w", err)
 	}
 	defer rows.Close()
-	var es []elicit.Event
+	var es []workshop.Event
 	for rows.Next() {
 		var (
-			e        elicit.Event
+			e        workshop.Event
 			question sql.NullInt64
 			kind, at string
 		)
 		if err := rows.Scan(&e.ID, &e.WorkshopID, &question, &kind, &at, &e.Reason, &e.Detail); err != nil {
 			return nil, fmt.Errorf("store: read event: %w", err)
 		}
-		e.QuestionID, e.Kind = question.Int64, elicit.EventKind(kind)
+		e.QuestionID, e.Kind = question.Int64, workshop.EventKind(kind)
 		if e.At, err = parseTime(at); err != nil {
 			return nil, err
 		}

@@ -7,13 +7,14 @@ import (
 	"fmt"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 const expertColumns = `id, workshop_id, name, affiliation, expertise, revoked, created`
 
 // AddExpert adds e to its workshop's panel with the hash of their access
 // token, recording EventExpertAdded. It sets e's ID and Created.
-func (db *DB) AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte) error {
+func (db *DB) AddExpert(ctx context.Context, e *workshop.Expert, tokenHash []byte) error {
 	if len(tokenHash) == 0 {
 		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
 	}
@@ -33,8 +34,8 @@ func (db *DB) AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte)
 		if err != nil {
 			return fmt.Errorf("store: add expert: %w", err)
 		}
-		if err := insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: e.WorkshopID, Kind: elicit.EventExpertAdded, At: created,
+		if err := insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: e.WorkshopID, Kind: workshop.EventExpertAdded, At: created,
 			Detail: fmt.Sprintf(`{"expert_id":%d}`, id),
 		}); err != nil {
 			return err
@@ -45,7 +46,7 @@ func (db *DB) AddExpert(ctx context.Context, e *elicit.Expert, tokenHash []byte)
 }
 
 // Expert returns the expert with the given ID, revoked or not.
-func (db *DB) Expert(ctx context.Context, id int64) (elicit.Expert, error) {
+func (db *DB) Expert(ctx context.Context, id int64) (workshop.Expert, error) {
 	e, err := scanExpert(db.r.QueryRowContext(ctx, `SELECT `+expertColumns+` FROM experts WHERE id = ?`, id))
 	if errors.Is(err, sql.ErrNoRows) {
 		return e, notFound("expert", id)
@@ -54,18 +55,18 @@ func (db *DB) Expert(ctx context.Context, id int64) (elicit.Expert, error) {
 }
 
 // Experts returns a workshop's panel in the order they were added.
-func (db *DB) Experts(ctx context.Context, workshopID int64) ([]elicit.Expert, error) {
+func (db *DB) Experts(ctx context.Context, workshopID int64) ([]workshop.Expert, error) {
 	return readExperts(ctx, db.r, workshopID)
 }
 
-func readExperts(ctx context.Context, db querier, workshopID int64) ([]elicit.Expert, error) {
+func readExperts(ctx context.Context, db querier, workshopID int64) ([]workshop.Expert, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT `+expertColumns+` FROM experts WHERE workshop_id = ? ORDER BY id`, workshopID)
 	if err != nil {
 		return nil, fmt.Errorf("store: experts: %w", err)
 	}
 	defer rows.Close()
-	var es []elicit.Expert
+	var es []workshop.Expert
 	for rows.Next() {
 		e, err := scanExpert(rows)
 		if err != nil {
@@ -98,15 +99,15 @@ func (db *DB) RevokedExperts(ctx context.Context, workshopID int64) ([]int64, er
 
 // ExpertByToken returns the unrevoked expert whose token hashes to
 // tokenHash.
-func (db *DB) ExpertByToken(ctx context.Context, tokenHash []byte) (elicit.Expert, error) {
+func (db *DB) ExpertByToken(ctx context.Context, tokenHash []byte) (workshop.Expert, error) {
 	if len(tokenHash) == 0 {
-		return elicit.Expert{}, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
+		return workshop.Expert{}, fmt.Errorf("store: expert by token: %w", workshop.ErrNotFound)
 	}
-	return remembered(db.rows, db.rows.byToken, string(tokenHash), func() (elicit.Expert, error) {
+	return remembered(db.rows, db.rows.byToken, string(tokenHash), func() (workshop.Expert, error) {
 		e, err := scanExpert(db.r.QueryRowContext(ctx,
 			`SELECT `+expertColumns+` FROM experts WHERE token_hash = ? AND revoked = 0`, tokenHash))
 		if errors.Is(err, sql.ErrNoRows) {
-			return e, fmt.Errorf("store: expert by token: %w", elicit.ErrNotFound)
+			return e, fmt.Errorf("store: expert by token: %w", workshop.ErrNotFound)
 		}
 		return e, err
 	})
@@ -118,19 +119,19 @@ func (db *DB) ReissueToken(ctx context.Context, expertID int64, tokenHash []byte
 	if len(tokenHash) == 0 {
 		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
 	}
-	return db.expertDecision(ctx, expertID, elicit.EventTokenReissued, reason,
+	return db.expertDecision(ctx, expertID, workshop.EventTokenReissued, reason,
 		`UPDATE experts SET token_hash = ?, revoked = 0 WHERE id = ?`, tokenHash, expertID)
 }
 
 // RevokeExpert stops an expert's access token from working and records
 // EventExpertRevoked. Their revisions stay in the record.
 func (db *DB) RevokeExpert(ctx context.Context, expertID int64, reason string) error {
-	return db.expertDecision(ctx, expertID, elicit.EventExpertRevoked, reason,
+	return db.expertDecision(ctx, expertID, workshop.EventExpertRevoked, reason,
 		`UPDATE experts SET revoked = 1 WHERE id = ?`, expertID)
 }
 
 // expertDecision runs one UPDATE of an expert together with its event.
-func (db *DB) expertDecision(ctx context.Context, expertID int64, kind elicit.EventKind, reason, update string, args ...any) error {
+func (db *DB) expertDecision(ctx context.Context, expertID int64, kind workshop.EventKind, reason, update string, args ...any) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		var workshopID int64
 		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM experts WHERE id = ?`, expertID).Scan(&workshopID)
@@ -143,16 +144,16 @@ func (db *DB) expertDecision(ctx context.Context, expertID int64, kind elicit.Ev
 		if _, err := tx.ExecContext(ctx, update, args...); err != nil {
 			return fmt.Errorf("store: expert %d: %s: %w", expertID, kind, err)
 		}
-		return insertEvent(ctx, tx, elicit.Event{
+		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
 			Detail: fmt.Sprintf(`{"expert_id":%d}`, expertID),
 		})
 	})
 }
 
-func scanExpert(s scanner) (elicit.Expert, error) {
+func scanExpert(s scanner) (workshop.Expert, error) {
 	var (
-		e       elicit.Expert
+		e       workshop.Expert
 		revoked int
 		created string
 	)

@@ -7,7 +7,8 @@ import (
 	"fmt"
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Import adds the workshop in rec to the database as a new workshop and
@@ -18,7 +19,7 @@ import (
 // imported without access tokens: the facilitator issues new links.
 // Fits and pools in the record are not imported; they are recomputed
 // from the judgements.
-func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
+func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 	if err := rec.Validate(); err != nil {
 		return 0, err
 	}
@@ -55,7 +56,7 @@ func (db *DB) Import(ctx context.Context, rec elicit.Record) (int64, error) {
 		// force.
 		history := rec.WeightHistory
 		if len(history) == 0 {
-			history = []elicit.Weights{rec.Weights}
+			history = []workshop.Weights{rec.Weights}
 		}
 		for _, wt := range history {
 			if err := imp.weights(workshopID, wt); err != nil {
@@ -103,14 +104,14 @@ func (imp importer) insert(query string, args ...any) (int64, error) {
 	return res.LastInsertId()
 }
 
-func (imp importer) workshop(w elicit.Workshop) (int64, error) {
+func (imp importer) workshop(w workshop.Workshop) (int64, error) {
 	return imp.insert(
 		`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, archived, created)
 		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), boolInt(w.Archived), formatTime(w.Created))
 }
 
-func (imp importer) question(workshopID int64, q elicit.Question) error {
+func (imp importer) question(workshopID int64, q workshop.Question) error {
 	probs, err := marshalList(q.Probs)
 	if err != nil {
 		return err
@@ -133,7 +134,7 @@ func (imp importer) question(workshopID int64, q elicit.Question) error {
 	return nil
 }
 
-func (imp importer) expert(workshopID int64, e elicit.Expert) error {
+func (imp importer) expert(workshopID int64, e workshop.Expert) error {
 	id, err := imp.insert(
 		`INSERT INTO experts (workshop_id, name, affiliation, expertise, token_hash, revoked, created)
 		 VALUES (?, ?, ?, ?, NULL, ?, ?)`,
@@ -145,7 +146,7 @@ func (imp importer) expert(workshopID int64, e elicit.Expert) error {
 	return nil
 }
 
-func (imp importer) revision(rv elicit.Revision) error {
+func (imp importer) revision(rv workshop.Revision) error {
 	values, err := marshalList(rv.Answer.Values)
 	if err != nil {
 		return err
@@ -172,7 +173,7 @@ func (imp importer) revision(rv elicit.Revision) error {
 // frozenThrough carries a revealed question's freeze over to the new IDs:
 // the last imported revision of the question whose old ID was at most the
 // old RevealedThrough.
-func (imp importer) frozenThrough(q elicit.Question, revs []elicit.RecordRevision) error {
+func (imp importer) frozenThrough(q workshop.Question, revs []record.Revision) error {
 	if q.RevealedThrough == 0 {
 		return nil
 	}
@@ -191,8 +192,8 @@ func (imp importer) frozenThrough(q elicit.Question, revs []elicit.RecordRevisio
 
 // weights writes one weight set of the record, with its basis, unless it
 // is the default (equal, never set).
-func (imp importer) weights(workshopID int64, w elicit.Weights) error {
-	if w.ID == 0 && w.At.IsZero() && w.Scheme == elicit.WeightsEqual && len(w.ByExpert) == 0 {
+func (imp importer) weights(workshopID int64, w workshop.Weights) error {
+	if w.ID == 0 && w.At.IsZero() && w.Scheme == workshop.WeightsEqual && len(w.ByExpert) == 0 {
 		return nil
 	}
 	byExpert := map[int64]float64{}
@@ -219,32 +220,32 @@ func (imp importer) weights(workshopID int64, w elicit.Weights) error {
 
 // basis is a weight set's basis with the new IDs of its experts,
 // questions and revisions.
-func (imp importer) basis(b *elicit.WeightBasis) *elicit.WeightBasis {
+func (imp importer) basis(b *workshop.WeightBasis) *workshop.WeightBasis {
 	if b == nil {
 		return nil
 	}
 	out := *b
-	out.Questions = append([]elicit.BasisQuestion(nil), b.Questions...)
+	out.Questions = append([]workshop.BasisQuestion(nil), b.Questions...)
 	for i := range out.Questions {
 		out.Questions[i].QuestionID = imp.questions[out.Questions[i].QuestionID]
 	}
-	out.CalibrationAnswers = append([]elicit.BasisAnswer(nil), b.CalibrationAnswers...)
+	out.CalibrationAnswers = append([]workshop.BasisAnswer(nil), b.CalibrationAnswers...)
 	for i := range out.CalibrationAnswers {
 		a := &out.CalibrationAnswers[i]
 		a.ExpertID, a.QuestionID, a.RevisionID = imp.experts[a.ExpertID], imp.questions[a.QuestionID], imp.revisions[a.RevisionID]
 	}
-	out.Skipped = append([]elicit.SkippedQuestion(nil), b.Skipped...)
+	out.Skipped = append([]workshop.SkippedQuestion(nil), b.Skipped...)
 	for i := range out.Skipped {
 		out.Skipped[i].ID = imp.questions[out.Skipped[i].ID]
 	}
-	out.Experts = append([]elicit.PerformanceExpert(nil), b.Experts...)
+	out.Experts = append([]workshop.PerformanceExpert(nil), b.Experts...)
 	for i := range out.Experts {
 		out.Experts[i].ExpertID = imp.experts[out.Experts[i].ExpertID]
 	}
 	return &out
 }
 
-func (imp importer) prior(ap elicit.AgreedPrior) error {
+func (imp importer) prior(ap workshop.AgreedPrior) error {
 	consensus, err := marshalConsensus(ap.Consensus)
 	if err != nil {
 		return err

@@ -11,6 +11,8 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // fullWorkshop seeds a workshop through every kind of decision: two
@@ -20,8 +22,8 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	t.Helper()
 	ctx := context.Background()
 	p := seed(t, db)
-	save := func(q, e int, a elicit.Answer, reason string) {
-		r := elicit.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: a, Reason: reason}
+	save := func(q, e int, a workshop.Answer, reason string) {
+		r := workshop.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: a, Reason: reason}
 		if err := db.SaveRevision(ctx, &r); err != nil {
 			t.Fatal(err)
 		}
@@ -29,24 +31,24 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	save(0, 0, quantileAnswer(0.3), "")
 	save(0, 1, quantileAnswer(0.4), "")
 	save(0, 2, quantileAnswer(0.5), "")
-	save(1, 0, elicit.Answer{Lowest: 0.1, Highest: 0.6, Best: 0.3, Confidence: 0.8}, "")
+	save(1, 0, workshop.Answer{Lowest: 0.1, Highest: 0.6, Best: 0.3, Confidence: 0.8}, "")
 	must(t, db.SetRound(ctx, p.w.ID, 1, false, "discussion"))
 	must(t, db.SetRound(ctx, p.w.ID, 2, true, "second look"))
 	save(0, 0, quantileAnswer(0.35), "heard Bela")
 	// Bela's second round came by phone and the facilitator typed it; its
 	// reason names someone, so it is withheld from the feedback.
-	byPhone := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.38),
-		Reason: "as Dr Example said (invented)", EnteredBy: elicit.ByFacilitator, Channel: elicit.ChannelPhone}
+	byPhone := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.38),
+		Reason: "as Dr Example said (invented)", EnteredBy: workshop.ByFacilitator, Channel: workshop.ChannelPhone}
 	must(t, db.SaveRevision(ctx, &byPhone))
 	must(t, db.SetReasonWithheld(ctx, byPhone.ID, true, "names a person"))
 	must(t, db.RevokeExpert(ctx, p.experts[2].ID, "left"))
 	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.28, true, "seed revealed"))
-	must(t, db.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom, Reason: "audits",
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "audits",
 		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1}}))
 	consensus := quantileAnswer(0.33)
-	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true}))
-	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromConsensus,
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromConsensus,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed", RoundOpen: true}))
 	return p
 }
@@ -81,7 +83,7 @@ func TestImportRoundTrip(t *testing.T) {
 	src := newDB(t)
 	p := fullWorkshop(t, src)
 	first := exportJSON(t, src, p.w.ID)
-	rec, err := elicit.ParseRecord(bytes.NewReader(first))
+	rec, err := record.Parse(bytes.NewReader(first))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -201,12 +203,12 @@ func TestRecordWhileSaving(t *testing.T) {
 	done := make(chan error)
 	go func() {
 		for i := range 300 {
-			e := elicit.Expert{WorkshopID: p.w.ID, Name: "late joiner"}
+			e := workshop.Expert{WorkshopID: p.w.ID, Name: "late joiner"}
 			if err := db.AddExpert(ctx, &e, []byte(fmt.Sprintf("late-%d", i))); err != nil {
 				done <- err
 				return
 			}
-			r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}
+			r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}
 			if err := db.SaveRevision(ctx, &r); err != nil {
 				done <- err
 				return
@@ -279,7 +281,7 @@ func TestBackupWhileSaving(t *testing.T) {
 				return
 			default:
 			}
-			r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+			r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
 			if err := db.SaveRevision(ctx, &r); err != nil {
 				done <- err
 				return
@@ -327,7 +329,7 @@ func TestImportRecordWithoutProvenance(t *testing.T) {
 		delete(rv, "channel")
 	}
 	old, _ := json.Marshal(doc)
-	rec, err := elicit.ParseRecord(bytes.NewReader(old))
+	rec, err := record.Parse(bytes.NewReader(old))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -338,7 +340,7 @@ func TestImportRecordWithoutProvenance(t *testing.T) {
 	}
 	revs, _ := dst.Revisions(ctx, id)
 	for _, rv := range revs {
-		if rv.EnteredBy != elicit.ByExpert || rv.Channel != "" {
+		if rv.EnteredBy != workshop.ByExpert || rv.Channel != "" {
 			t.Fatalf("an older record's revision reads as %q %q", rv.EnteredBy, rv.Channel)
 		}
 	}

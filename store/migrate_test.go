@@ -6,7 +6,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // TestMigrateFromEveryVersion brings a database at each earlier schema
@@ -30,15 +30,15 @@ func TestMigrateFromEveryVersion(t *testing.T) {
 		if v, _ := old.SchemaVersion(ctx); v != k {
 			t.Fatalf("at version %d, SchemaVersion = %d", k, v)
 		}
-		var w elicit.Workshop
+		var w workshop.Workshop
 		if k >= 1 { // version 1: workshops and the panel's record
-			w = elicit.Workshop{Title: "Written at an old version (invented)"}
+			w = workshop.Workshop{Title: "Written at an old version (invented)"}
 			if err := old.CreateWorkshop(ctx, &w); err != nil {
 				t.Fatalf("version %d: %v", k, err)
 			}
 		}
 		if k >= 2 { // version 2: weights and agreed priors
-			if err := old.SetWeights(ctx, &elicit.Weights{WorkshopID: w.ID, Scheme: elicit.WeightsEqual, Reason: "v2"}); err != nil {
+			if err := old.SetWeights(ctx, &workshop.Weights{WorkshopID: w.ID, Scheme: workshop.WeightsEqual, Reason: "v2"}); err != nil {
 				t.Fatalf("version %d: %v", k, err)
 			}
 		}
@@ -85,7 +85,7 @@ func TestMigrateFromEveryVersion(t *testing.T) {
 			if err != nil || len(old) != 32 {
 				t.Fatalf("from version %d: panel salt %x, %v", k, old, err)
 			}
-			nw := elicit.Workshop{Title: "Made after the upgrade (invented)"}
+			nw := workshop.Workshop{Title: "Made after the upgrade (invented)"}
 			if err := db.CreateWorkshop(ctx, &nw); err != nil {
 				t.Fatal(err)
 			}

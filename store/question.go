@@ -10,6 +10,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
@@ -17,7 +18,7 @@ const questionColumns = `id, workshop_id, position, wording, quantity, units, lo
 
 // AddQuestion appends q to its workshop's questions, recording
 // EventQuestionAdded. It sets q's ID and Position.
-func (db *DB) AddQuestion(ctx context.Context, q *elicit.Question) error {
+func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
 	probs, err := marshalList(q.Probs)
 	if err != nil {
 		return err
@@ -49,8 +50,8 @@ func (db *DB) AddQuestion(ctx context.Context, q *elicit.Question) error {
 		if err != nil {
 			return fmt.Errorf("store: add question: %w", err)
 		}
-		if err := insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: q.WorkshopID, QuestionID: id, Kind: elicit.EventQuestionAdded, At: now(),
+		if err := insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: q.WorkshopID, QuestionID: id, Kind: workshop.EventQuestionAdded, At: now(),
 		}); err != nil {
 			return err
 		}
@@ -60,8 +61,8 @@ func (db *DB) AddQuestion(ctx context.Context, q *elicit.Question) error {
 }
 
 // Question returns the question with the given ID.
-func (db *DB) Question(ctx context.Context, id int64) (elicit.Question, error) {
-	q, err := remembered(db.rows, db.rows.questions, id, func() (elicit.Question, error) {
+func (db *DB) Question(ctx context.Context, id int64) (workshop.Question, error) {
+	q, err := remembered(db.rows, db.rows.questions, id, func() (workshop.Question, error) {
 		q, err := scanQuestion(db.r.QueryRowContext(ctx,
 			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, id))
 		if errors.Is(err, sql.ErrNoRows) {
@@ -73,18 +74,18 @@ func (db *DB) Question(ctx context.Context, id int64) (elicit.Question, error) {
 }
 
 // Questions returns a workshop's questions in position order.
-func (db *DB) Questions(ctx context.Context, workshopID int64) ([]elicit.Question, error) {
+func (db *DB) Questions(ctx context.Context, workshopID int64) ([]workshop.Question, error) {
 	return readQuestions(ctx, db.r, workshopID)
 }
 
-func readQuestions(ctx context.Context, db querier, workshopID int64) ([]elicit.Question, error) {
+func readQuestions(ctx context.Context, db querier, workshopID int64) ([]workshop.Question, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT `+questionColumns+` FROM questions WHERE workshop_id = ? ORDER BY position, id`, workshopID)
 	if err != nil {
 		return nil, fmt.Errorf("store: questions: %w", err)
 	}
 	defer rows.Close()
-	var qs []elicit.Question
+	var qs []workshop.Question
 	for rows.Next() {
 		q, err := scanQuestion(rows)
 		if err != nil {
@@ -99,7 +100,7 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]elicit.
 // also makes the value visible to experts and records EventTruthRevealed.
 // A revealed value stays revealed. The first reveal freezes the answers:
 // it stores its time and the question's last revision id, and from then
-// on SaveRevision refuses the question (elicit.ErrAnswersFrozen). Saves
+// on SaveRevision refuses the question (workshop.ErrAnswersFrozen). Saves
 // and the reveal go through the one writer, so no save slips in between.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
 	if math.IsNaN(value) || math.IsInf(value, 0) {
@@ -130,8 +131,8 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 		if !reveal {
 			// The value stays hidden, from the record too until the reveal,
 			// so the event says only that it was entered or changed.
-			return insertEvent(ctx, tx, elicit.Event{
-				WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: elicit.EventTruthEntered, At: now(), Reason: reason,
+			return insertEvent(ctx, tx, workshop.Event{
+				WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventTruthEntered, At: now(), Reason: reason,
 			})
 		}
 		at := now()
@@ -144,16 +145,16 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			}
 		}
 		detail, _ := json.Marshal(map[string]float64{"true_value": value})
-		return insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: elicit.EventTruthRevealed,
+		return insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventTruthRevealed,
 			At: at, Reason: reason, Detail: string(detail),
 		})
 	})
 }
 
-func scanQuestion(s scanner) (elicit.Question, error) {
+func scanQuestion(s scanner) (workshop.Question, error) {
 	var (
-		q                        elicit.Question
+		q                        workshop.Question
 		format, probs, edges     string
 		calib, revealed, retired int
 		truth                    sql.NullFloat64
@@ -167,7 +168,7 @@ func scanQuestion(s scanner) (elicit.Question, error) {
 	if err != nil {
 		return q, fmt.Errorf("store: read question: %w", err)
 	}
-	q.Format = elicit.AnswerFormat(format)
+	q.Format = workshop.AnswerFormat(format)
 	q.Calibration, q.Revealed, q.Retired = calib == 1, revealed == 1, retired == 1
 	if revealedAt.Valid {
 		t, err := parseTime(revealedAt.String)

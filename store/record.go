@@ -5,14 +5,15 @@ import (
 	"fmt"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Source reads everything a record of the workshop is built from, in one
 // read transaction, so the parts agree with each other even while experts
 // are saving.
-func (db *DB) Source(ctx context.Context, workshopID int64) (elicit.RecordSource, error) {
-	var src elicit.RecordSource
+func (db *DB) Source(ctx context.Context, workshopID int64) (workshop.Snapshot, error) {
+	var src workshop.Snapshot
 	tx, err := db.r.BeginTx(ctx, nil)
 	if err != nil {
 		return src, fmt.Errorf("store: begin read: %w", err)
@@ -44,10 +45,10 @@ func (db *DB) Source(ctx context.Context, workshopID int64) (elicit.RecordSource
 }
 
 // Record builds the workshop's export document as of now.
-func (db *DB) Record(ctx context.Context, workshopID int64, now time.Time) (elicit.Record, error) {
+func (db *DB) Record(ctx context.Context, workshopID int64, now time.Time) (record.Record, error) {
 	src, err := db.Source(ctx, workshopID)
 	if err != nil {
-		return elicit.Record{}, err
+		return record.Record{}, err
 	}
-	return elicit.BuildRecord(src, now)
+	return record.Build(src, now)
 }

@@ -6,7 +6,7 @@ import (
 	"path/filepath"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The first reveal stores its time and the question's last revision,
@@ -16,10 +16,10 @@ func TestRevealFreezesAnswers(t *testing.T) {
 	ctx := context.Background()
 	p := seed(t, db)
 	q := p.qs[1] // the calibration question, in the four-value format
-	a := elicit.Answer{Lowest: 0.1, Highest: 0.5, Best: 0.25, Confidence: 0.8}
-	first := elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: a}
+	a := workshop.Answer{Lowest: 0.1, Highest: 0.5, Best: 0.25, Confidence: 0.8}
+	first := workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: a}
 	must(t, db.SaveRevision(ctx, &first))
-	other := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+	other := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
 	must(t, db.SaveRevision(ctx, &other))
 
 	must(t, db.SetTrueValue(ctx, q.ID, 0.3, false, ""))
@@ -34,8 +34,8 @@ func TestRevealFreezesAnswers(t *testing.T) {
 	}
 	revealedAt := *got.RevealedAt
 
-	late := elicit.Revision{QuestionID: q.ID, ExpertID: p.experts[1].ID, Answer: a}
-	if err := db.SaveRevision(ctx, &late); !errors.Is(err, elicit.ErrAnswersFrozen) {
+	late := workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[1].ID, Answer: a}
+	if err := db.SaveRevision(ctx, &late); !errors.Is(err, workshop.ErrAnswersFrozen) {
 		t.Fatalf("save after the reveal: %v, want ErrAnswersFrozen", err)
 	}
 	revs, _ := db.Revisions(ctx, p.w.ID)
@@ -43,7 +43,7 @@ func TestRevealFreezesAnswers(t *testing.T) {
 		t.Fatalf("%d revisions after a refused save, want 2", len(revs))
 	}
 	// Other questions still take answers.
-	must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.4)}))
+	must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.4)}))
 	// Changing the revealed value is a new reveal event, but the freeze
 	// keeps its first moment.
 	must(t, db.SetTrueValue(ctx, q.ID, 0.31, true, "typo in the true value"))
@@ -93,7 +93,7 @@ func TestMigrationFreezesEarlierReveals(t *testing.T) {
 	qs, _ := db.Questions(ctx, 1)
 	es, _ := db.Experts(ctx, 1)
 	revs, _ := db.Revisions(ctx, 1)
-	set := elicit.NewCalibrationSet(qs, es, revs, true)
+	set := workshop.NewCalibrationSet(qs, es, revs, true)
 	if len(set.Assessments) != 1 || set.Assessments[0].Quantiles[1] != 0.2 {
 		t.Fatalf("scored %+v, want the answer standing at the reveal (median 0.2)", set.Assessments)
 	}

@@ -7,19 +7,19 @@ import (
 	"fmt"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // SaveRevision appends an expert's answer to a question. In the same
-// transaction it checks that the question is not retired (elicit.ErrRetired)
+// transaction it checks that the question is not retired (workshop.ErrRetired)
 // nor a calibration question whose true value has been revealed
-// (elicit.ErrAnswersFrozen), that the question's workshop has an open round
-// (else an error wrapping elicit.ErrRoundClosed) and that the expert
+// (workshop.ErrAnswersFrozen), that the question's workshop has an open round
+// (else an error wrapping workshop.ErrRoundClosed) and that the expert
 // exists, is not revoked and sits on that workshop's panel. It sets r's ID,
 // Round and At. The answer's content is elicit's to check, before saving.
-func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
+func (db *DB) SaveRevision(ctx context.Context, r *workshop.Revision) error {
 	if r.EnteredBy == "" {
-		r.EnteredBy = elicit.ByExpert
+		r.EnteredBy = workshop.ByExpert
 	}
 	if err := r.CheckProvenance(); err != nil {
 		return err
@@ -39,7 +39,7 @@ func (db *DB) SaveRevision(ctx context.Context, r *elicit.Revision) error {
 }
 
 // saveRevision is SaveRevision's work inside tx.
-func saveRevision(ctx context.Context, tx *sql.Tx, r *elicit.Revision, values, counts string, at time.Time) error {
+func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values, counts string, at time.Time) error {
 	var (
 		workshopID            int64
 		round                 int
@@ -69,21 +69,21 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *elicit.Revision, values, c
 	}
 	if expertWorkshop != workshopID {
 		return fmt.Errorf("store: expert %d is not on the panel of workshop %d: %w",
-			r.ExpertID, workshopID, elicit.ErrNotFound)
+			r.ExpertID, workshopID, workshop.ErrNotFound)
 	}
 	if revoked == 1 {
 		return fmt.Errorf("store: expert %d: %w", r.ExpertID, ErrRevoked)
 	}
 	if retired == 1 {
-		return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrRetired)
+		return fmt.Errorf("store: question %d: %w", r.QuestionID, workshop.ErrRetired)
 	}
 	if frozen == 1 {
-		return fmt.Errorf("store: question %d: %w", r.QuestionID, elicit.ErrAnswersFrozen)
+		return fmt.Errorf("store: question %d: %w", r.QuestionID, workshop.ErrAnswersFrozen)
 	}
 	if open == 0 {
-		return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, elicit.ErrRoundClosed)
+		return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, workshop.ErrRoundClosed)
 	}
-	id, err := insertRevision(ctx, tx, elicit.Revision{
+	id, err := insertRevision(ctx, tx, workshop.Revision{
 		QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
 		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel,
 	}, values, counts)
@@ -98,12 +98,12 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *elicit.Revision, values, c
 // SaveRevision's rules: all are saved, or none (the error names the
 // index of the first refused, as "revisions[i]"). It is for judgements
 // the facilitator imports from a file.
-func (db *DB) SaveRevisions(ctx context.Context, rs []elicit.Revision) error {
+func (db *DB) SaveRevisions(ctx context.Context, rs []workshop.Revision) error {
 	type encoded struct{ values, counts string }
 	enc := make([]encoded, len(rs))
 	for i := range rs {
 		if rs[i].EnteredBy == "" {
-			rs[i].EnteredBy = elicit.ByExpert
+			rs[i].EnteredBy = workshop.ByExpert
 		}
 		if err := rs[i].CheckProvenance(); err != nil {
 			return fmt.Errorf("revisions[%d]: %w", i, err)
@@ -128,10 +128,10 @@ func (db *DB) SaveRevisions(ctx context.Context, rs []elicit.Revision) error {
 }
 
 // ErrRevoked is returned (wrapped) when a revoked expert tries to save;
-// it is elicit.ErrRevoked.
-var ErrRevoked = elicit.ErrRevoked
+// it is workshop.ErrRevoked.
+var ErrRevoked = workshop.ErrRevoked
 
-func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, counts string) (int64, error) {
+func insertRevision(ctx context.Context, tx *sql.Tx, r workshop.Revision, values, counts string) (int64, error) {
 	a := r.Answer
 	res, err := tx.ExecContext(ctx,
 		`INSERT INTO revisions (question_id, expert_id, round, at, reason,
@@ -151,11 +151,11 @@ func insertRevision(ctx context.Context, tx *sql.Tx, r elicit.Revision, values, 
 
 // Revisions returns every revision on a workshop's questions, oldest
 // first.
-func (db *DB) Revisions(ctx context.Context, workshopID int64) ([]elicit.Revision, error) {
+func (db *DB) Revisions(ctx context.Context, workshopID int64) ([]workshop.Revision, error) {
 	return readRevisions(ctx, db.r, workshopID)
 }
 
-func readRevisions(ctx context.Context, db querier, workshopID int64) ([]elicit.Revision, error) {
+func readRevisions(ctx context.Context, db querier, workshopID int64) ([]workshop.Revision, error) {
 	return scanRevisions(db.QueryContext(ctx,
 		`SELECT `+revisionColumns+`
 		 FROM revisions r JOIN questions q ON q.id = r.question_id
@@ -163,9 +163,9 @@ func readRevisions(ctx context.Context, db querier, workshopID int64) ([]elicit.
 }
 
 // enteredBy reads an empty EnteredBy, as in older records, as the expert.
-func enteredBy(b elicit.EnteredBy) elicit.EnteredBy {
+func enteredBy(b workshop.EnteredBy) workshop.EnteredBy {
 	if b == "" {
-		return elicit.ByExpert
+		return workshop.ByExpert
 	}
 	return b
 }

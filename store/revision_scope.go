@@ -5,7 +5,7 @@ import (
 	"database/sql"
 	"fmt"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Reads of revisions narrower than a whole workshop, for the pages an
@@ -20,14 +20,14 @@ const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reas
 
 // ExpertRevisions returns one expert's revisions on every question of
 // their workshop, oldest first.
-func (db *DB) ExpertRevisions(ctx context.Context, expertID int64) ([]elicit.Revision, error) {
+func (db *DB) ExpertRevisions(ctx context.Context, expertID int64) ([]workshop.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r WHERE r.expert_id = ? ORDER BY r.id`, expertID))
 }
 
 // QuestionExpertRevisions returns one expert's revisions of one question,
 // oldest first.
-func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]elicit.Revision, error) {
+func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]workshop.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r
 		 WHERE r.question_id = ? AND r.expert_id = ? ORDER BY r.id`, questionID, expertID))
@@ -36,8 +36,9 @@ func (db *DB) QuestionExpertRevisions(ctx context.Context, questionID, expertID 
 // LatestRevisions returns each expert's latest revision of one question
 // saved in round `through` or before (the one with the highest id,
 // revisions being append-only), ordered by revision id: what
-// elicit.LatestThrough picks from all the question's revisions.
-func (db *DB) LatestRevisions(ctx context.Context, questionID int64, through int) ([]elicit.Revision, error) {
+// workshop.Current picks from all the question's revisions with
+// workshop.Through(through), for a round through of 1 or more.
+func (db *DB) LatestRevisions(ctx context.Context, questionID int64, through int) ([]workshop.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r
 		 WHERE r.id IN (SELECT MAX(id) FROM revisions WHERE question_id = ? AND round <= ? GROUP BY expert_id)
@@ -45,15 +46,15 @@ func (db *DB) LatestRevisions(ctx context.Context, questionID int64, through int
 }
 
 // scanRevisions reads rows of revisionColumns.
-func scanRevisions(rows *sql.Rows, err error) ([]elicit.Revision, error) {
+func scanRevisions(rows *sql.Rows, err error) ([]workshop.Revision, error) {
 	if err != nil {
 		return nil, fmt.Errorf("store: revisions: %w", err)
 	}
 	defer rows.Close()
-	var rs []elicit.Revision
+	var rs []workshop.Revision
 	for rows.Next() {
 		var (
-			r                       elicit.Revision
+			r                       workshop.Revision
 			at, vs, counts, by, via string
 			withheld, percent       int
 		)
@@ -62,7 +63,7 @@ func scanRevisions(rows *sql.Rows, err error) ([]elicit.Revision, error) {
 			return nil, fmt.Errorf("store: read revision: %w", err)
 		}
 		r.ReasonWithheld, r.Answer.Percent = withheld == 1, percent == 1
-		r.EnteredBy, r.Channel = elicit.EnteredBy(by), elicit.Channel(via)
+		r.EnteredBy, r.Channel = workshop.EnteredBy(by), workshop.Channel(via)
 		if r.At, err = parseTime(at); err != nil {
 			return nil, err
 		}

@@ -1,11 +1,13 @@
 package store
 
 import (
+	"cmp"
 	"context"
 	"reflect"
+	"slices"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The scoped reads must return exactly the revisions that filtering the
@@ -17,9 +19,9 @@ func TestScopedRevisionReads(t *testing.T) {
 	a, b := seed(t, db), seed(t, db)
 	save := func(p panel, q, e int, median float64) {
 		t.Helper()
-		rv := elicit.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: quantileAnswer(median)}
+		rv := workshop.Revision{QuestionID: p.qs[q].ID, ExpertID: p.experts[e].ID, Answer: quantileAnswer(median)}
 		if q == 1 {
-			rv.Answer = elicit.Answer{Lowest: 0.1, Highest: 0.5, Best: median, Confidence: 0.8}
+			rv.Answer = workshop.Answer{Lowest: 0.1, Highest: 0.5, Best: median, Confidence: 0.8}
 		}
 		if err := db.SaveRevision(ctx, &rv); err != nil {
 			t.Fatal(err)
@@ -36,8 +38,8 @@ func TestScopedRevisionReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	filter := func(keep func(elicit.Revision) bool) []elicit.Revision {
-		var out []elicit.Revision
+	filter := func(keep func(workshop.Revision) bool) []workshop.Revision {
+		var out []workshop.Revision
 		for _, r := range all {
 			if keep(r) {
 				out = append(out, r)
@@ -51,7 +53,7 @@ func TestScopedRevisionReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := filter(func(r elicit.Revision) bool { return r.ExpertID == ada }); len(want) != 3 || !reflect.DeepEqual(got, want) {
+	if want := filter(func(r workshop.Revision) bool { return r.ExpertID == ada }); len(want) != 3 || !reflect.DeepEqual(got, want) {
 		t.Errorf("ExpertRevisions = %+v, want %+v", got, want)
 	}
 
@@ -59,7 +61,7 @@ func TestScopedRevisionReads(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if want := filter(func(r elicit.Revision) bool { return r.ExpertID == ada && r.QuestionID == q0 }); len(want) != 2 || !reflect.DeepEqual(got, want) {
+	if want := filter(func(r workshop.Revision) bool { return r.ExpertID == ada && r.QuestionID == q0 }); len(want) != 2 || !reflect.DeepEqual(got, want) {
 		t.Errorf("QuestionExpertRevisions = %+v, want %+v", got, want)
 	}
 
@@ -73,7 +75,7 @@ func TestScopedRevisionReads(t *testing.T) {
 			latest[r.ExpertID] = r.ID
 		}
 	}
-	want := filter(func(r elicit.Revision) bool { return r.QuestionID == q0 && latest[r.ExpertID] == r.ID })
+	want := filter(func(r workshop.Revision) bool { return r.QuestionID == q0 && latest[r.ExpertID] == r.ID })
 	if len(want) != 3 || !reflect.DeepEqual(got, want) {
 		t.Errorf("LatestRevisions = %+v, want %+v", got, want)
 	}
@@ -88,7 +90,7 @@ func TestScopedRevisionReads(t *testing.T) {
 
 	// Round 2: Ada revises question 0 again. Read through round 1, the
 	// panel stays as round 1 closed; through round 2 it has her revision.
-	// Both reads equal elicit.LatestThrough over the question's revisions.
+	// Both reads equal workshop.Current over the question's revisions.
 	if err := db.SetRound(ctx, a.w.ID, 1, false, "discussion"); err != nil {
 		t.Fatal(err)
 	}
@@ -99,13 +101,18 @@ func TestScopedRevisionReads(t *testing.T) {
 	if all, err = db.Revisions(ctx, a.w.ID); err != nil {
 		t.Fatal(err)
 	}
-	ofQ0 := filter(func(r elicit.Revision) bool { return r.QuestionID == q0 })
+	ofQ0 := filter(func(r workshop.Revision) bool { return r.QuestionID == q0 })
 	for through, adaMedian := range map[int]float64{1: 0.32, 2: 0.28} {
 		got, err := db.LatestRevisions(ctx, q0, through)
 		if err != nil {
 			t.Fatal(err)
 		}
-		if want := elicit.LatestThrough(ofQ0, through); len(want) != 3 || !reflect.DeepEqual(got, want) {
+		var want []workshop.Revision
+		for _, r := range workshop.Current(ofQ0, workshop.Through(through)) {
+			want = append(want, r)
+		}
+		slices.SortFunc(want, func(a, b workshop.Revision) int { return cmp.Compare(a.ID, b.ID) })
+		if len(want) != 3 || !reflect.DeepEqual(got, want) {
 			t.Errorf("LatestRevisions through round %d = %+v, want %+v", through, got, want)
 		}
 		for _, r := range got {

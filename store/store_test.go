@@ -12,6 +12,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 func newDB(t *testing.T) *DB {
@@ -26,15 +27,15 @@ func newDB(t *testing.T) *DB {
 
 // panel is an invented workshop: two questions, three experts.
 type panel struct {
-	w       elicit.Workshop
-	qs      []elicit.Question
-	experts []elicit.Expert
+	w       workshop.Workshop
+	qs      []workshop.Question
+	experts []workshop.Expert
 }
 
 func seed(t testing.TB, db *DB) panel {
 	t.Helper()
 	ctx := context.Background()
-	p := panel{w: elicit.Workshop{
+	p := panel{w: workshop.Workshop{
 		Title: "Pump seal failures (invented)", Purpose: "prior for a seal failure rate",
 		Decision: "spare-part stock", Notes: "facilitator only", Invented: true,
 	}}
@@ -42,11 +43,11 @@ func seed(t testing.TB, db *DB) panel {
 		t.Fatal(err)
 	}
 	truth := 0.3
-	qs := []elicit.Question{
+	qs := []workshop.Question{
 		{WorkshopID: p.w.ID, Wording: "What share of seals fail within a year?", Quantity: "failure share",
-			Units: "proportion", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
+			Units: "proportion", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
 		{WorkshopID: p.w.ID, Wording: "Share of audited pumps with leaks last year?", Quantity: "leak share",
-			Lower: 0, Upper: 1, Format: elicit.FormatInterval, Calibration: true, TrueValue: &truth},
+			Lower: 0, Upper: 1, Format: workshop.FormatInterval, Calibration: true, TrueValue: &truth},
 	}
 	for i := range qs {
 		if err := db.AddQuestion(ctx, &qs[i]); err != nil {
@@ -55,7 +56,7 @@ func seed(t testing.TB, db *DB) panel {
 	}
 	p.qs = qs
 	for i, name := range []string{"Ada", "Bela", "Chidi"} {
-		e := elicit.Expert{WorkshopID: p.w.ID, Name: name, Affiliation: "Plant " + name, Expertise: "seals"}
+		e := workshop.Expert{WorkshopID: p.w.ID, Name: name, Affiliation: "Plant " + name, Expertise: "seals"}
 		if err := db.AddExpert(ctx, &e, []byte(fmt.Sprintf("hash-%d-%d", p.w.ID, i))); err != nil {
 			t.Fatal(err)
 		}
@@ -64,8 +65,8 @@ func seed(t testing.TB, db *DB) panel {
 	return p
 }
 
-func quantileAnswer(median float64) elicit.Answer {
-	return elicit.Answer{Values: []float64{median - 0.1, median, median + 0.1}}
+func quantileAnswer(median float64) workshop.Answer {
+	return workshop.Answer{Values: []float64{median - 0.1, median, median + 0.1}}
 }
 
 func TestWorkshopRoundTrip(t *testing.T) {
@@ -93,7 +94,7 @@ func TestWorkshopRoundTrip(t *testing.T) {
 	if len(ws) != 1 || !reflect.DeepEqual(ws[0], p.w) {
 		t.Fatalf("Workshops = %+v, want [%+v]", ws, p.w)
 	}
-	if err := db.UpdateWorkshop(ctx, elicit.Workshop{ID: 999, Title: "x"}); !errors.Is(err, elicit.ErrNotFound) {
+	if err := db.UpdateWorkshop(ctx, workshop.Workshop{ID: 999, Title: "x"}); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("update of missing workshop: %v, want ErrNotFound", err)
 	}
 }
@@ -133,7 +134,7 @@ func TestSetRound(t *testing.T) {
 	}
 	var kinds []string
 	for _, e := range evs {
-		if e.Kind == elicit.EventRoundClosed || e.Kind == elicit.EventRoundOpened {
+		if e.Kind == workshop.EventRoundClosed || e.Kind == workshop.EventRoundOpened {
 			kinds = append(kinds, string(e.Kind)+":"+e.Reason)
 		}
 	}
@@ -141,7 +142,7 @@ func TestSetRound(t *testing.T) {
 	if !reflect.DeepEqual(kinds, want) {
 		t.Fatalf("round events %v, want %v", kinds, want)
 	}
-	if err := db.SetRound(ctx, 999, 1, false, ""); !errors.Is(err, elicit.ErrNotFound) {
+	if err := db.SetRound(ctx, 999, 1, false, ""); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("SetRound on missing workshop: %v", err)
 	}
 }
@@ -150,12 +151,12 @@ func TestQuestionRoundTrip(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	chips := elicit.Question{WorkshopID: p.w.ID, Wording: "Place your chips", Lower: 0, Upper: 1,
-		Format: elicit.FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 20}
+	chips := workshop.Question{WorkshopID: p.w.ID, Wording: "Place your chips", Lower: 0, Upper: 1,
+		Format: workshop.FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 20}
 	if err := db.AddQuestion(ctx, &chips); err != nil {
 		t.Fatal(err)
 	}
-	want := append(append([]elicit.Question{}, p.qs...), chips)
+	want := append(append([]workshop.Question{}, p.qs...), chips)
 	for i, q := range want {
 		if q.Position != i+1 {
 			t.Fatalf("question %d has position %d, want %d", q.ID, q.Position, i+1)
@@ -175,7 +176,7 @@ func TestQuestionRoundTrip(t *testing.T) {
 	if !reflect.DeepEqual(got, want) {
 		t.Fatalf("Questions = %+v, want %+v", got, want)
 	}
-	if err := db.AddQuestion(ctx, &elicit.Question{WorkshopID: 999, Lower: 0, Upper: 1}); !errors.Is(err, elicit.ErrNotFound) {
+	if err := db.AddQuestion(ctx, &workshop.Question{WorkshopID: 999, Lower: 0, Upper: 1}); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("question for missing workshop: %v", err)
 	}
 }
@@ -200,7 +201,7 @@ func TestSetTrueValue(t *testing.T) {
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
 	last := evs[len(evs)-1]
-	if last.Kind != elicit.EventTruthRevealed || last.QuestionID != cal.ID || last.Reason != "after round 2" {
+	if last.Kind != workshop.EventTruthRevealed || last.QuestionID != cal.ID || last.Reason != "after round 2" {
 		t.Fatalf("last event %+v, want truth_revealed", last)
 	}
 	bad := []struct {
@@ -218,7 +219,7 @@ func TestSetTrueValue(t *testing.T) {
 			t.Errorf("%s: %v, want InputError on %s", b.name, err, b.field)
 		}
 	}
-	if err := db.SetTrueValue(ctx, 999, 0.2, true, ""); !errors.Is(err, elicit.ErrNotFound) {
+	if err := db.SetTrueValue(ctx, 999, 0.2, true, ""); !errors.Is(err, workshop.ErrNotFound) {
 		t.Errorf("missing question: %v", err)
 	}
 }
@@ -242,7 +243,7 @@ func TestExpertTokens(t *testing.T) {
 	if err := db.RevokeExpert(ctx, a.ID, "left the panel"); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := db.ExpertByToken(ctx, []byte(fmt.Sprintf("hash-%d-0", p.w.ID))); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.ExpertByToken(ctx, []byte(fmt.Sprintf("hash-%d-0", p.w.ID))); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("revoked token: %v, want ErrNotFound", err)
 	}
 	if got, _ := db.Expert(ctx, a.ID); !got.Revoked {
@@ -258,7 +259,7 @@ func TestExpertTokens(t *testing.T) {
 	if err := db.ReissueToken(ctx, a.ID, []byte("new-hash"), "rejoined"); err != nil {
 		t.Fatal(err)
 	}
-	if _, err := db.ExpertByToken(ctx, []byte(fmt.Sprintf("hash-%d-0", p.w.ID))); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.ExpertByToken(ctx, []byte(fmt.Sprintf("hash-%d-0", p.w.ID))); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("old token after reissue: %v, want ErrNotFound", err)
 	}
 	if got, err := db.ExpertByToken(ctx, []byte("new-hash")); err != nil || got.ID != a.ID || got.Revoked {
@@ -268,20 +269,20 @@ func TestExpertTokens(t *testing.T) {
 		t.Fatalf("RevokedExperts after the reissue = %v, %v; want none", ids, err)
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
-	var kinds []elicit.EventKind
+	var kinds []workshop.EventKind
 	for _, e := range evs[len(evs)-2:] {
 		kinds = append(kinds, e.Kind)
 	}
-	if !reflect.DeepEqual(kinds, []elicit.EventKind{elicit.EventExpertRevoked, elicit.EventTokenReissued}) {
+	if !reflect.DeepEqual(kinds, []workshop.EventKind{workshop.EventExpertRevoked, workshop.EventTokenReissued}) {
 		t.Fatalf("last events %v", kinds)
 	}
 	for name, err := range map[string]error{
 		"Expert":       func() error { _, err := db.Expert(ctx, 999); return err }(),
 		"RevokeExpert": db.RevokeExpert(ctx, 999, ""),
 		"ReissueToken": db.ReissueToken(ctx, 999, []byte("x"), ""),
-		"AddExpert":    db.AddExpert(ctx, &elicit.Expert{WorkshopID: 999, Name: "x"}, []byte("y")),
+		"AddExpert":    db.AddExpert(ctx, &workshop.Expert{WorkshopID: 999, Name: "x"}, []byte("y")),
 	} {
-		if !errors.Is(err, elicit.ErrNotFound) {
+		if !errors.Is(err, workshop.ErrNotFound) {
 			t.Errorf("%s of missing row: %v, want ErrNotFound", name, err)
 		}
 	}
@@ -291,10 +292,10 @@ func TestRevisionRoundTrip(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	want := []elicit.Revision{
+	want := []workshop.Revision{
 		{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)},
 		{QuestionID: p.qs[1].ID, ExpertID: p.experts[1].ID, Reason: "first go",
-			Answer: elicit.Answer{Lowest: 0.1, Highest: 0.6, Best: 0.3, Confidence: 0.8}},
+			Answer: workshop.Answer{Lowest: 0.1, Highest: 0.6, Best: 0.3, Confidence: 0.8}},
 		{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Reason: "narrower", Answer: quantileAnswer(0.25)},
 	}
 	for i := range want {
@@ -324,13 +325,13 @@ func TestSaveRevisionRules(t *testing.T) {
 	}
 	tests := []struct {
 		name string
-		r    elicit.Revision
+		r    workshop.Revision
 		want error
 	}{
-		{"missing question", elicit.Revision{QuestionID: 999, ExpertID: p.experts[0].ID}, elicit.ErrNotFound},
-		{"missing expert", elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: 999}, elicit.ErrNotFound},
-		{"expert of another workshop", elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: other.experts[0].ID}, elicit.ErrNotFound},
-		{"revoked expert", elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[2].ID}, ErrRevoked},
+		{"missing question", workshop.Revision{QuestionID: 999, ExpertID: p.experts[0].ID}, workshop.ErrNotFound},
+		{"missing expert", workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: 999}, workshop.ErrNotFound},
+		{"expert of another workshop", workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: other.experts[0].ID}, workshop.ErrNotFound},
+		{"revoked expert", workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[2].ID}, ErrRevoked},
 	}
 	for _, tt := range tests {
 		tt.r.Answer = quantileAnswer(0.3)
@@ -341,8 +342,8 @@ func TestSaveRevisionRules(t *testing.T) {
 	if err := db.SetRound(ctx, p.w.ID, 1, false, "discussion"); err != nil {
 		t.Fatal(err)
 	}
-	r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
-	if err := db.SaveRevision(ctx, &r); !errors.Is(err, elicit.ErrRoundClosed) {
+	r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+	if err := db.SaveRevision(ctx, &r); !errors.Is(err, workshop.ErrRoundClosed) {
 		t.Fatalf("save in closed round: %v, want ErrRoundClosed", err)
 	}
 	if rs, _ := db.Revisions(ctx, p.w.ID); len(rs) != 0 {
@@ -360,11 +361,11 @@ func TestAppendOnly(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+	r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
 	if err := db.SaveRevision(ctx, &r); err != nil {
 		t.Fatal(err)
 	}
-	prior := elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+	prior := workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 7}), Rationale: "pool", RoundOpen: true}
 	if err := db.AgreePrior(ctx, &prior); err != nil {
 		t.Fatal(err)
@@ -419,7 +420,7 @@ func TestConcurrentSaves(t *testing.T) {
 		go func() {
 			defer wg.Done()
 			for i := range each {
-				r := elicit.Revision{
+				r := workshop.Revision{
 					QuestionID: p.qs[g%2].ID, ExpertID: p.experts[g%3].ID,
 					Reason: fmt.Sprintf("g%d-%d", g, i), Answer: quantileAnswer(0.3),
 				}
@@ -456,10 +457,10 @@ func TestWeights(t *testing.T) {
 	p := seed(t, db)
 	other := seed(t, db)
 	w, err := db.Weights(ctx, p.w.ID)
-	if err != nil || w.Scheme != elicit.WeightsEqual || w.ByExpert != nil {
+	if err != nil || w.Scheme != workshop.WeightsEqual || w.ByExpert != nil {
 		t.Fatalf("default weights %+v, %v; want equal", w, err)
 	}
-	set := elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom, Reason: "Ada ran the audits",
+	set := workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "Ada ran the audits",
 		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1, p.experts[2].ID: 0}}
 	if err := db.SetWeights(ctx, &set); err != nil {
 		t.Fatal(err)
@@ -471,17 +472,17 @@ func TestWeights(t *testing.T) {
 	before, _ := db.Events(ctx, p.w.ID)
 	bad := []struct {
 		name string
-		w    elicit.Weights
+		w    workshop.Weights
 		want error
 	}{
-		{"negative", elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom,
+		{"negative", workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom,
 			ByExpert: map[int64]float64{p.experts[0].ID: -1}}, &elicit.InputError{}},
-		{"all zero", elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom,
+		{"all zero", workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom,
 			ByExpert: map[int64]float64{p.experts[0].ID: 0}}, &elicit.InputError{}},
-		{"unknown scheme", elicit.Weights{WorkshopID: p.w.ID, Scheme: "secret"}, &elicit.InputError{}},
-		{"expert of another workshop", elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom,
-			ByExpert: map[int64]float64{other.experts[0].ID: 1}}, elicit.ErrNotFound},
-		{"missing workshop", elicit.Weights{WorkshopID: 999, Scheme: elicit.WeightsEqual}, elicit.ErrNotFound},
+		{"unknown scheme", workshop.Weights{WorkshopID: p.w.ID, Scheme: "secret"}, &elicit.InputError{}},
+		{"expert of another workshop", workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom,
+			ByExpert: map[int64]float64{other.experts[0].ID: 1}}, workshop.ErrNotFound},
+		{"missing workshop", workshop.Weights{WorkshopID: 999, Scheme: workshop.WeightsEqual}, workshop.ErrNotFound},
 	}
 	for _, b := range bad {
 		err := db.SetWeights(ctx, &b.w)
@@ -496,10 +497,10 @@ func TestWeights(t *testing.T) {
 		t.Fatalf("rejected weights wrote %d events", len(after)-len(before))
 	}
 	last := after[len(after)-1]
-	if last.Kind != elicit.EventWeightsSet || last.Reason != set.Reason || !strings.Contains(last.Detail, `"custom"`) {
+	if last.Kind != workshop.EventWeightsSet || last.Reason != set.Reason || !strings.Contains(last.Detail, `"custom"`) {
 		t.Fatalf("weights event %+v", last)
 	}
-	if _, err := db.Weights(ctx, 999); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.Weights(ctx, 999); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("weights of missing workshop: %v", err)
 	}
 }
@@ -509,16 +510,16 @@ func TestAgreedPriors(t *testing.T) {
 	ctx := context.Background()
 	p := seed(t, db)
 	consensus := quantileAnswer(0.3)
-	want := []elicit.AgreedPrior{
-		{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: 4.2, Beta: 17.9}),
+	want := []workshop.AgreedPrior{
+		{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: 4.2, Beta: 17.9}),
 			Rationale: "the pool", RoundOpen: true},
-		{QuestionID: p.qs[0].ID, Source: elicit.PriorFromConsensus, Dist: elicit.Unit(elicit.Beta{Alpha: 5, Beta: 12}),
+		{QuestionID: p.qs[0].ID, Source: workshop.PriorFromConsensus, Dist: elicit.Unit(elicit.Beta{Alpha: 5, Beta: 12}),
 			Consensus: &consensus, Rationale: "agreed after discussion"},
 	}
 	// The round is open: a prior not confirmed as agreed while open is
 	// refused, and nothing is written.
-	if err := db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
-		Dist: want[0].Dist, Rationale: "too early"}); !errors.Is(err, elicit.ErrRoundStillOpen) {
+	if err := db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
+		Dist: want[0].Dist, Rationale: "too early"}); !errors.Is(err, workshop.ErrRoundStillOpen) {
 		t.Fatalf("prior while the round is open, unconfirmed: %v, want ErrRoundStillOpen", err)
 	}
 	if got, _ := db.AgreedPriors(ctx, p.w.ID); len(got) != 0 {
@@ -542,13 +543,13 @@ func TestAgreedPriors(t *testing.T) {
 	}
 	evs, _ := db.Events(ctx, p.w.ID)
 	last := evs[len(evs)-1]
-	if last.Kind != elicit.EventPriorAgreed || last.QuestionID != p.qs[0].ID || !strings.Contains(last.Detail, `"alpha":5`) ||
+	if last.Kind != workshop.EventPriorAgreed || last.QuestionID != p.qs[0].ID || !strings.Contains(last.Detail, `"alpha":5`) ||
 		strings.Contains(last.Detail, "while_round_open") {
 		t.Fatalf("prior event %+v", last)
 	}
-	var openEvent elicit.Event
+	var openEvent workshop.Event
 	for _, e := range evs {
-		if e.Kind == elicit.EventPriorAgreed {
+		if e.Kind == workshop.EventPriorAgreed {
 			openEvent = e
 			break
 		}
@@ -556,13 +557,13 @@ func TestAgreedPriors(t *testing.T) {
 	if !strings.Contains(openEvent.Detail, `"while_round_open":true`) {
 		t.Fatalf("the prior agreed while the round was open is not noted in its event: %+v", openEvent)
 	}
-	bad := elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: -1, Beta: 2})}
+	bad := workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: -1, Beta: 2})}
 	var ie *elicit.InputError
 	if err := db.AgreePrior(ctx, &bad); !errors.As(err, &ie) || ie.Field != "alpha" {
 		t.Fatalf("bad prior: %v, want InputError on alpha", err)
 	}
 	missing := want[0]
-	if err := db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: 999, Source: missing.Source, Dist: missing.Dist}); !errors.Is(err, elicit.ErrNotFound) {
+	if err := db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: 999, Source: missing.Source, Dist: missing.Dist}); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("prior for missing question: %v", err)
 	}
 }
@@ -627,7 +628,7 @@ func TestBackup(t *testing.T) {
 	db := newDB(t)
 	ctx := context.Background()
 	p := seed(t, db)
-	r := elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+	r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
 	if err := db.SaveRevision(ctx, &r); err != nil {
 		t.Fatal(err)
 	}

@@ -11,44 +11,46 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // scoredWorkshop is the seed panel with two calibration questions at
 // 5/50/95 that every expert answered, their true values revealed, and
 // performance weights applied with their basis, then a prior agreed
 // from the pool.
-func scoredWorkshop(t *testing.T, db *DB) (panel, elicit.Weights) {
+func scoredWorkshop(t *testing.T, db *DB) (panel, workshop.Weights) {
 	t.Helper()
 	ctx := context.Background()
 	p := seed(t, db)
 	answers := [][]float64{{0.2, 0.3, 0.45}, {0.6, 0.62, 0.64}, {0.1, 0.35, 0.7}}
 	for i, truth := range []float64{0.33, 0.41} {
-		q := elicit.Question{WorkshopID: p.w.ID, Wording: "Seed (invented)", Quantity: "seed share", Lower: 0, Upper: 1,
-			Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
+		q := workshop.Question{WorkshopID: p.w.ID, Wording: "Seed (invented)", Quantity: "seed share", Lower: 0, Upper: 1,
+			Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
 		must(t, db.AddQuestion(ctx, &q))
 		for j, e := range p.experts {
 			a := append([]float64(nil), answers[j]...)
 			a[1] += 0.01 * float64(i)
-			must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: elicit.Answer{Values: a}}))
+			must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: a}}))
 		}
 		must(t, db.SetTrueValue(ctx, q.ID, truth, true, "revealed (invented)"))
 		p.qs = append(p.qs, q)
 	}
 	for _, e := range p.experts {
-		must(t, db.SaveRevision(ctx, &elicit.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}))
+		must(t, db.SaveRevision(ctx, &workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.3)}))
 	}
 	qs, _ := db.Questions(ctx, p.w.ID)
 	es, _ := db.Experts(ctx, p.w.ID)
 	rs, _ := db.Revisions(ctx, p.w.ID)
-	set := elicit.NewCalibrationSet(qs, es, rs, true)
-	perf, err := elicit.ScorePerformance(set, nil)
+	set := workshop.NewCalibrationSet(qs, es, rs, true)
+	perf, err := workshop.ScorePerformance(set, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	b := elicit.NewWeightBasis(set, perf)
-	w := elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsPerformance, ByExpert: perf.WeightsByExpert(), Reason: "scored", Basis: &b}
+	b := workshop.NewWeightBasis(set, perf)
+	w := workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsPerformance, ByExpert: perf.WeightsByExpert(), Reason: "scored", Basis: &b}
 	must(t, db.SetWeights(ctx, &w))
-	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "weighted pool", RoundOpen: true}))
 	return p, w
 }
@@ -72,7 +74,7 @@ func TestWeightSetKeepsItsBasis(t *testing.T) {
 	}
 	// Custom weights are kept as typed, without a basis; a basis on them
 	// is refused and nothing is written.
-	custom := elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsCustom, Reason: "as typed",
+	custom := workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "as typed",
 		ByExpert: map[int64]float64{p.experts[0].ID: 2.5, p.experts[1].ID: 0.5}}
 	bad := custom
 	bad.Basis = w.Basis
@@ -91,7 +93,7 @@ func TestWeightSetKeepsItsBasis(t *testing.T) {
 	}
 	// The prior agreed while set w was in force names it; one agreed now
 	// names the custom set.
-	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: p.qs[0].ID, Source: elicit.PriorFromPool,
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 5, Beta: 9}), Rationale: "custom pool", RoundOpen: true}))
 	ps, _ := db.AgreedPriors(ctx, p.w.ID)
 	if len(ps) != 2 || ps[0].WeightSetID != w.ID || ps[1].WeightSetID != custom.ID {
@@ -99,7 +101,7 @@ func TestWeightSetKeepsItsBasis(t *testing.T) {
 	}
 	// A workshop that never set weights: the prior names no set.
 	other := seed(t, db)
-	must(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: other.qs[0].ID, Source: elicit.PriorFromPool,
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: other.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 2, Beta: 3}), Rationale: "equal", RoundOpen: true}))
 	if ps, _ := db.AgreedPriors(ctx, other.w.ID); len(ps) != 1 || ps[0].WeightSetID != 0 {
 		t.Fatalf("prior under never-set weights: %+v", ps)
@@ -107,7 +109,7 @@ func TestWeightSetKeepsItsBasis(t *testing.T) {
 	if h, err := db.WeightHistory(ctx, other.w.ID); err != nil || len(h) != 0 {
 		t.Fatalf("history of a workshop without sets: %v, %v", h, err)
 	}
-	if _, err := db.WeightHistory(ctx, 9999); !errors.Is(err, elicit.ErrNotFound) {
+	if _, err := db.WeightHistory(ctx, 9999); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("history of a missing workshop: %v", err)
 	}
 	// Sets stay append-only, basis and all.
@@ -127,9 +129,9 @@ func TestImportKeepsWeightHistory(t *testing.T) {
 	src := newDB(t)
 	seed(t, src) // so the source's IDs differ from the copy's
 	p, _ := scoredWorkshop(t, src)
-	must(t, src.SetWeights(ctx, &elicit.Weights{WorkshopID: p.w.ID, Scheme: elicit.WeightsEqual, Reason: "back to equal"}))
+	must(t, src.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsEqual, Reason: "back to equal"}))
 	first := exportJSON(t, src, p.w.ID)
-	rec, err := elicit.ParseRecord(bytes.NewReader(first))
+	rec, err := record.Parse(bytes.NewReader(first))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -144,14 +146,14 @@ func TestImportKeepsWeightHistory(t *testing.T) {
 	hist, _ := dst.WeightHistory(ctx, id)
 	es, _ := dst.Experts(ctx, id)
 	rs, _ := dst.Revisions(ctx, id)
-	if len(hist) != 2 || hist[0].Basis == nil || hist[1].Scheme != elicit.WeightsEqual {
+	if len(hist) != 2 || hist[0].Basis == nil || hist[1].Scheme != workshop.WeightsEqual {
 		t.Fatalf("imported history %+v", hist)
 	}
 	experts := map[int64]bool{}
 	for _, e := range es {
 		experts[e.ID] = true
 	}
-	revs := map[int64]elicit.Revision{}
+	revs := map[int64]workshop.Revision{}
 	for _, rv := range rs {
 		revs[rv.ID] = rv
 	}
@@ -215,7 +217,7 @@ func TestImportOlderRecordWithoutBasis(t *testing.T) {
 	if strings.Contains(string(old), "basis") || strings.Contains(string(old), "weight_set_id") {
 		t.Fatal("the older record still has the new keys")
 	}
-	rec, err := elicit.ParseRecord(bytes.NewReader(old))
+	rec, err := record.Parse(bytes.NewReader(old))
 	if err != nil {
 		t.Fatalf("older record refused: %v", err)
 	}
@@ -225,7 +227,7 @@ func TestImportOlderRecordWithoutBasis(t *testing.T) {
 		t.Fatal(err)
 	}
 	got, _ := dst.Weights(ctx, id)
-	if got.Scheme != elicit.WeightsPerformance || got.Basis != nil || len(got.ByExpert) != 3 {
+	if got.Scheme != workshop.WeightsPerformance || got.Basis != nil || len(got.ByExpert) != 3 {
 		t.Fatalf("imported weights %+v", got)
 	}
 	if ps, _ := dst.AgreedPriors(ctx, id); len(ps) != 1 || ps[0].WeightSetID != 0 {

@@ -7,14 +7,14 @@ import (
 	"errors"
 	"fmt"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 const workshopColumns = `id, title, purpose, decision, notes, round, round_open, invented, archived, created`
 
 // CreateWorkshop saves a new workshop in round 1, open, and records
 // EventWorkshopCreated. It sets w's ID, Created, Round and Open.
-func (db *DB) CreateWorkshop(ctx context.Context, w *elicit.Workshop) error {
+func (db *DB) CreateWorkshop(ctx context.Context, w *workshop.Workshop) error {
 	created := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
 		res, err := tx.ExecContext(ctx,
@@ -28,8 +28,8 @@ func (db *DB) CreateWorkshop(ctx context.Context, w *elicit.Workshop) error {
 		if err != nil {
 			return fmt.Errorf("store: create workshop: %w", err)
 		}
-		if err := insertEvent(ctx, tx, elicit.Event{
-			WorkshopID: id, Kind: elicit.EventWorkshopCreated, At: created,
+		if err := insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: id, Kind: workshop.EventWorkshopCreated, At: created,
 		}); err != nil {
 			return err
 		}
@@ -42,7 +42,7 @@ func (db *DB) CreateWorkshop(ctx context.Context, w *elicit.Workshop) error {
 // recording EventWorkshopEdited with the changed fields before and after,
 // so the record keeps what the panel read before. Nothing changed is
 // nothing recorded.
-func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
+func (db *DB) UpdateWorkshop(ctx context.Context, w workshop.Workshop) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		old, err := scanWorkshop(tx.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, w.ID))
 		if errors.Is(err, sql.ErrNoRows) {
@@ -74,20 +74,20 @@ func (db *DB) UpdateWorkshop(ctx context.Context, w elicit.Workshop) error {
 		if err != nil {
 			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
 		}
-		return insertEvent(ctx, tx, elicit.Event{WorkshopID: w.ID, Kind: elicit.EventWorkshopEdited, At: now(), Detail: string(detail)})
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: w.ID, Kind: workshop.EventWorkshopEdited, At: now(), Detail: string(detail)})
 	})
 }
 
 // Workshop returns the workshop with the given ID.
-func (db *DB) Workshop(ctx context.Context, id int64) (elicit.Workshop, error) {
-	return remembered(db.rows, db.rows.workshops, id, func() (elicit.Workshop, error) { return readWorkshop(ctx, db.r, id) })
+func (db *DB) Workshop(ctx context.Context, id int64) (workshop.Workshop, error) {
+	return remembered(db.rows, db.rows.workshops, id, func() (workshop.Workshop, error) { return readWorkshop(ctx, db.r, id) })
 }
 
-func readWorkshop(ctx context.Context, db querier, id int64) (elicit.Workshop, error) {
+func readWorkshop(ctx context.Context, db querier, id int64) (workshop.Workshop, error) {
 	row := db.QueryRowContext(ctx, `SELECT `+workshopColumns+` FROM workshops WHERE id = ?`, id)
 	w, err := scanWorkshop(row)
 	if errors.Is(err, sql.ErrNoRows) {
-		return elicit.Workshop{}, notFound("workshop", id)
+		return workshop.Workshop{}, notFound("workshop", id)
 	}
 	return w, err
 }
@@ -108,13 +108,13 @@ func (db *DB) PanelSalt(ctx context.Context, workshopID int64) ([]byte, error) {
 }
 
 // Workshops returns every workshop, oldest first.
-func (db *DB) Workshops(ctx context.Context) ([]elicit.Workshop, error) {
+func (db *DB) Workshops(ctx context.Context) ([]workshop.Workshop, error) {
 	rows, err := db.r.QueryContext(ctx, `SELECT `+workshopColumns+` FROM workshops ORDER BY id`)
 	if err != nil {
 		return nil, fmt.Errorf("store: workshops: %w", err)
 	}
 	defer rows.Close()
-	var ws []elicit.Workshop
+	var ws []workshop.Workshop
 	for rows.Next() {
 		w, err := scanWorkshop(rows)
 		if err != nil {
@@ -140,15 +140,15 @@ func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bo
 		if err := w.CheckRoundChange(round, open); err != nil {
 			return err
 		}
-		kind := elicit.EventRoundClosed
+		kind := workshop.EventRoundClosed
 		if open {
-			kind = elicit.EventRoundOpened
+			kind = workshop.EventRoundOpened
 		}
 		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round = ?, round_open = ? WHERE id = ?`,
 			round, boolInt(open), workshopID); err != nil {
 			return fmt.Errorf("store: set round: %w", err)
 		}
-		return insertEvent(ctx, tx, elicit.Event{
+		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
 			Detail: fmt.Sprintf(`{"round":%d}`, round),
 		})
@@ -157,9 +157,9 @@ func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bo
 
 type scanner interface{ Scan(dest ...any) error }
 
-func scanWorkshop(s scanner) (elicit.Workshop, error) {
+func scanWorkshop(s scanner) (workshop.Workshop, error) {
 	var (
-		w                      elicit.Workshop
+		w                      workshop.Workshop
 		open, invent, archived int
 		created                string
 	)

@@ -15,7 +15,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -187,8 +187,8 @@ func TestFailedImportLeavesNoFiles(t *testing.T) {
 	reason := strings.Repeat("Invented reasoning about the batch. ", 110) // under the 4000-character limit
 	for _, e := range ws.experts {
 		for _, q := range ws.questions {
-			if err := src.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: e.id, Reason: reason,
-				Answer: elicit.Answer{Values: []float64{0.02, 0.05, 0.11}}}); err != nil {
+			if err := src.SaveRevision(ctx, &workshop.Revision{QuestionID: q.ID, ExpertID: e.id, Reason: reason,
+				Answer: workshop.Answer{Values: []float64{0.02, 0.05, 0.11}}}); err != nil {
 				t.Fatal(err)
 			}
 		}

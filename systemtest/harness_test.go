@@ -21,7 +21,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -197,7 +197,7 @@ func (c *child) exitCode() int {
 // seeded is a workshop prepared directly through the store.
 type seeded struct {
 	workshopID int64
-	questions  []elicit.Question
+	questions  []workshop.Question
 	experts    []seededExpert
 }
 
@@ -229,7 +229,7 @@ func seedWorkshop(t testing.TB, dbPath string, nExperts, nQuestions int) seeded 
 		t.Fatal(err)
 	}
 	defer db.Close()
-	w := elicit.Workshop{
+	w := workshop.Workshop{
 		Title:    "Invented: valve seat failure proportion (system test)",
 		Purpose:  "An invented scenario for Parley's system tests.",
 		Decision: "None: invented data.",
@@ -240,13 +240,13 @@ func seedWorkshop(t testing.TB, dbPath string, nExperts, nQuestions int) seeded 
 	}
 	s := seeded{workshopID: w.ID}
 	for i := 0; i < nQuestions; i++ {
-		q := elicit.Question{
+		q := workshop.Question{
 			WorkshopID: w.ID,
 			Wording:    fmt.Sprintf("Invented question %d: what proportion of seats in batch %d fail the leak test?", i+1, i+1),
 			Quantity:   fmt.Sprintf("proportion failing, batch %d", i+1),
 			Lower:      0, Upper: 1,
-			Format: elicit.FormatQuantiles,
-			Probs:  append([]float64(nil), elicit.ProbsDefault...),
+			Format: workshop.FormatQuantiles,
+			Probs:  append([]float64(nil), workshop.ProbsDefault...),
 		}
 		if err := db.AddQuestion(ctx, &q); err != nil {
 			t.Fatal(err)
@@ -255,7 +255,7 @@ func seedWorkshop(t testing.TB, dbPath string, nExperts, nQuestions int) seeded 
 	}
 	for i := 0; i < nExperts; i++ {
 		token, hash := newToken(t)
-		e := elicit.Expert{WorkshopID: w.ID, Name: fmt.Sprintf("Invented expert %03d", i+1)}
+		e := workshop.Expert{WorkshopID: w.ID, Name: fmt.Sprintf("Invented expert %03d", i+1)}
 		if err := db.AddExpert(ctx, &e, hash); err != nil {
 			t.Fatal(err)
 		}
@@ -377,7 +377,7 @@ func saveAcknowledged(status int) bool {
 
 // checkStored opens dbPath through the store, checks integrity and
 // returns the workshop's revisions.
-func checkStored(t testing.TB, dbPath string, workshopID int64) []elicit.Revision {
+func checkStored(t testing.TB, dbPath string, workshopID int64) []workshop.Revision {
 	t.Helper()
 	ctx := context.Background()
 	db, err := store.Open(dbPath)

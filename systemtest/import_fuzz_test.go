@@ -11,6 +11,8 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -31,8 +33,8 @@ func exportedRecord(tb testing.TB) []byte {
 	for _, e := range ws.experts {
 		for _, q := range ws.questions {
 			a := quantileAnswer(rng, "")
-			if err := db.SaveRevision(ctx, &elicit.Revision{QuestionID: q.ID, ExpertID: e.id,
-				Reason: "invented answer", Answer: elicit.Answer{Values: a.values}}); err != nil {
+			if err := db.SaveRevision(ctx, &workshop.Revision{QuestionID: q.ID, ExpertID: e.id,
+				Reason: "invented answer", Answer: workshop.Answer{Values: a.values}}); err != nil {
 				tb.Fatal(err)
 			}
 		}
@@ -74,7 +76,7 @@ func FuzzImportRecord(f *testing.F) {
 	f.Cleanup(func() { db.Close() })
 
 	f.Fuzz(func(t *testing.T, doc []byte) {
-		rec, err := elicit.ParseRecord(bytes.NewReader(doc))
+		rec, err := record.Parse(bytes.NewReader(doc))
 		if err != nil {
 			var ie *elicit.InputError
 			if !errors.As(err, &ie) {
@@ -121,7 +123,7 @@ func FuzzImportRecord(f *testing.F) {
 				t.Fatalf("revision %d imported as %+v, the record had %+v", i, rv.Answer, want)
 			}
 		}
-		again, err := elicit.BuildRecord(src, time.Date(2026, 12, 2, 0, 0, 0, 0, time.UTC))
+		again, err := record.Build(src, time.Date(2026, 12, 2, 0, 0, 0, 0, time.UTC))
 		if err != nil {
 			t.Fatalf("imported workshop does not build a record: %v", err)
 		}
@@ -134,7 +136,7 @@ func FuzzImportRecord(f *testing.F) {
 // TestImportRecordRoundTrip pins the fuzz target's main path: the seed
 // record is accepted and imported, so the checks above are reached.
 func TestImportRecordRoundTrip(t *testing.T) {
-	rec, err := elicit.ParseRecord(bytes.NewReader(exportedRecord(t)))
+	rec, err := record.Parse(bytes.NewReader(exportedRecord(t)))
 	if err != nil {
 		t.Fatalf("an exported record is refused on import: %v", err)
 	}

@@ -14,7 +14,9 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -38,17 +40,17 @@ func FuzzExpertAnswerForm(f *testing.F) {
 	}
 	h := srv.Handler()
 
-	ws := elicit.Workshop{Title: "Ferry delay panel (invented)", Invented: true}
+	ws := workshop.Workshop{Title: "Ferry delay panel (invented)", Invented: true}
 	if err := db.CreateWorkshop(ctx, &ws); err != nil {
 		f.Fatal(err)
 	}
-	qs := []elicit.Question{
+	qs := []workshop.Question{
 		{Wording: "Share of crossings delayed?", Quantity: "Delayed share", Lower: 0, Upper: 1,
-			Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
+			Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
 		{Wording: "Minutes of the typical delay?", Quantity: "Delay", Units: "min", Lower: 0, Upper: 120,
-			Format: elicit.FormatInterval},
+			Format: workshop.FormatInterval},
 		{Wording: "Place 20 chips on the share of cancelled crossings.", Quantity: "Cancelled share", Lower: 0, Upper: 1,
-			Format: elicit.FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 20},
+			Format: workshop.FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 20},
 	}
 	for i := range qs {
 		qs[i].WorkshopID = ws.ID
@@ -63,7 +65,7 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		f.Fatal(err)
 	}
 	sum := sha256.Sum256(raw)
-	e := elicit.Expert{WorkshopID: ws.ID, Name: "Signe Halvorsen (invented)"}
+	e := workshop.Expert{WorkshopID: ws.ID, Name: "Signe Halvorsen (invented)"}
 	if err := db.AddExpert(ctx, &e, sum[:]); err != nil {
 		f.Fatal(err)
 	}
@@ -110,7 +112,7 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		{"0.3333333333333333", "0.5", "0.6666666666666666", "0.0001", ""},
 		{"NaN", "Inf", "-Inf", "0x1p-2", ""},
 		{"1_000", "1,5", " 0.2 ", "+5", ""},
-		{"", "", "", "", strings.Repeat("r", web.MaxLongText+1)},
+		{"", "", "", "", strings.Repeat("r", input.MaxLongText+1)},
 		{"0.1", "0.2", "0.3", "5", "\x00\xff"},
 		{"20", "0", "0", "0", ""},
 		{"5", "5", "5", "5", ""},
@@ -139,12 +141,12 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		for _, q := range qs {
 			form := url.Values{"reason": {reason}}
 			switch q.Format {
-			case elicit.FormatInterval:
+			case workshop.FormatInterval:
 				form.Set("lowest", a)
 				form.Set("highest", b)
 				form.Set("best", c)
 				form.Set("confidence", d)
-			case elicit.FormatChips:
+			case workshop.FormatChips:
 				for i, v := range []string{a, b, c, d} {
 					form.Set("counts["+strconv.Itoa(i)+"]", v)
 				}
@@ -200,7 +202,7 @@ func FuzzExpertAnswerForm(f *testing.F) {
 				if err != nil {
 					t.Fatalf("%s save %q: saved an answer elicit cannot fit: %v", q.Format, form.Encode(), err)
 				}
-				if _, err := json.Marshal(elicit.RecordFitOf(fit)); err != nil {
+				if _, err := json.Marshal(record.FitOf(fit)); err != nil {
 					t.Fatalf("%s save %q: the fit does not export: %v", q.Format, form.Encode(), err)
 				}
 			}

@@ -7,6 +7,8 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -25,7 +27,7 @@ const (
 
 // isProportion reports whether q's values are proportions, which experts
 // may type as percentages.
-func isProportion(q elicit.Question) bool { return q.Lower == 0 && q.Upper == 1 }
+func isProportion(q workshop.Question) bool { return q.Lower == 0 && q.Upper == 1 }
 
 // rulePercentHere refuses a % sign where the question's values are not
 // proportions.
@@ -34,16 +36,16 @@ const rulePercentHere elicit.Rule = "is not a percentage: this question's values
 // parseAnswerNumber reads one value of an answer: a plain number, or for
 // a proportion question a percentage (5% → 0.05; a plain 5 too when
 // asPercent). typedPercent reports that it was read as a percentage.
-func parseAnswerNumber(name, raw string, q elicit.Question, asPercent bool) (v float64, typedPercent bool, err error) {
+func parseAnswerNumber(name, raw string, q workshop.Question, asPercent bool) (v float64, typedPercent bool, err error) {
 	s := strings.TrimSpace(raw)
 	if rest, ok := strings.CutSuffix(s, "%"); ok {
 		if !isProportion(q) {
 			return 0, false, &elicit.InputError{Field: name, Rule: rulePercentHere}
 		}
-		v, err := parseFloatField(name, rest)
+		v, err := input.Number(name, rest)
 		return v / 100, true, err
 	}
-	v, err = parseFloatField(name, s)
+	v, err = input.Number(name, s)
 	if err == nil && asPercent && isProportion(q) {
 		return v / 100, true, nil
 	}
@@ -59,7 +61,7 @@ const ruleConfidencePercent elicit.Rule = "is a percentage"
 func parseConfidence(raw string) (float64, error) {
 	s := strings.TrimSpace(raw)
 	rest, hadSign := strings.CutSuffix(s, "%")
-	v, err := parseFloatField("confidence", rest)
+	v, err := input.Number("confidence", rest)
 	if err != nil {
 		return 0, err
 	}
@@ -73,11 +75,11 @@ func parseConfidence(raw string) (float64, error) {
 // lets elicit judge it: every field's problem at once (Problems), then
 // the fit's own rules (Fit). Messages land beside their fields, written
 // for the expert.
-func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
+func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool) {
 	// Errors of other fields (a reason, a channel) do not stop the
 	// answer's own rules from being checked: every error shows at once.
 	before := len(f.Errors)
-	var a elicit.Answer
+	var a workshop.Answer
 	asPercent := isProportion(q) && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
@@ -92,7 +94,7 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 		return v
 	}
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		a.Lowest = value("lowest")
 		a.Highest = value("highest")
 		a.Best = value("best")
@@ -101,14 +103,14 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 			f.set("confidence", expertWords(q, f, err))
 		}
 		a.Confidence = c
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		a.Counts = make([]int, max(0, len(q.BinEdges)-1))
 		for i := range a.Counts {
 			name := fmt.Sprintf("counts[%d]", i)
 			if strings.TrimSpace(f.Value(name)) == "" {
 				continue // an empty bin holds no chips
 			}
-			n, err := parseIntField(name, f.Value(name), 0, elicit.MaxChips)
+			n, err := input.Whole(name, f.Value(name), 0, workshop.MaxChips)
 			if err != nil {
 				f.set(name, expertWords(q, f, err))
 			}
@@ -120,7 +122,7 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 			a.Values[i] = value(fmt.Sprintf("values[%d]", i))
 		}
 	}
-	a.Percent = isProportion(q) && q.Format != elicit.FormatChips && count > 0 && typed == count
+	a.Percent = isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
 	unread := len(f.Errors) > before
 	if ps := q.Problems(a); len(ps) > 0 {
 		// Beside the fields that could be read, every problem at once; a
@@ -148,7 +150,7 @@ func readAnswer(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, bool) {
 		case errors.Is(err, elicit.ErrFitFailed):
 			// Never the fitter's own words on an expert's screen.
 			f.set("", "No distribution could be drawn through these answers. Please check them: each value above the one before, none at a bound, and not all crowded together.")
-		case ie != nil && ie.Rule == elicit.RuleFitRange && q.Format == elicit.FormatChips:
+		case ie != nil && ie.Rule == elicit.RuleFitRange && q.Format == workshop.FormatChips:
 			f.set("", "No distribution Parley can draw matches where your chips are. Please spread them over more bins.")
 		case ie != nil && ie.Rule == elicit.RuleFitRange:
 			// The rule's own words speak of alpha and beta; an expert
@@ -189,7 +191,7 @@ func answerField(field string) string {
 // expertWords says what is wrong with a field in words for the expert,
 // quoting what they typed; no rule names, interval notation or
 // exponents.
-func expertWords(q elicit.Question, f *Form, err error) string {
+func expertWords(q workshop.Question, f *Form, err error) string {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
 		return "Parley could not read this. Please check it."
@@ -203,11 +205,11 @@ func expertWords(q elicit.Question, f *Form, err error) string {
 	switch ie.Rule {
 	case elicit.RuleRequired:
 		return "Please fill this in."
-	case RuleNumberSyntax, elicit.RuleFinite:
+	case input.RuleNumberSyntax, elicit.RuleFinite:
 		if isProportion(q) {
-			return "“" + clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
+			return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
 		}
-		return "“" + clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
+		return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
 	case rulePercentHere:
 		return "This question's values run " + between + ", not as percentages: please type the value without %."
 	case ruleConfidencePercent:
@@ -226,7 +228,7 @@ func expertWords(q elicit.Question, f *Form, err error) string {
 		}
 	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
 		return "Type a whole number of chips, such as 3, or leave it empty for none."
-	case elicit.RuleChipsExceeded:
+	case workshop.RuleChipsExceeded:
 		total := 0
 		for i := 0; i+1 < len(q.BinEdges); i++ {
 			if n, err := strconv.Atoi(strings.TrimSpace(f.Value(fmt.Sprintf("counts[%d]", i)))); err == nil {
@@ -249,7 +251,7 @@ func expertWords(q elicit.Question, f *Form, err error) string {
 }
 
 // previousLabel names the value a field must exceed, as the form labels it.
-func previousLabel(q elicit.Question, field string) string {
+func previousLabel(q workshop.Question, field string) string {
 	switch field {
 	case "best":
 		return "your lowest plausible value"
@@ -287,7 +289,7 @@ func typedBack(v float64, percent bool) string {
 
 // readAsLine says how a proportion question's values were read: "Read as
 // 0.02 (2%), 0.05 (5%) and 0.12 (12%)."
-func readAsLine(q elicit.Question, values []float64) string {
+func readAsLine(q workshop.Question, values []float64) string {
 	if !isProportion(q) || len(values) == 0 {
 		return ""
 	}
@@ -304,7 +306,7 @@ func readAsLine(q elicit.Question, values []float64) string {
 
 // expertWarnings are a fit's warnings in words for the expert; the
 // facilitator's pages keep elicit's own, written for them.
-func expertWarnings(q elicit.Question, fit elicit.Fit) []string {
+func expertWarnings(q workshop.Question, fit elicit.Fit) []string {
 	var out []string
 	for _, w := range fit.Warnings {
 		switch w.Code {
@@ -325,7 +327,7 @@ func expertWarnings(q elicit.Question, fit elicit.Fit) []string {
 			out = append(out, "Please check the curve against your numbers.")
 		}
 	}
-	if q.Format == elicit.FormatInterval && len(fit.Probs) == 3 {
+	if q.Format == workshop.FormatInterval && len(fit.Probs) == 3 {
 		if c := fit.Probs[2] - fit.Probs[0]; c < 0.5 {
 			out = append(out, "You are "+chart.FormatPercent(c)+" sure the value lies between your lowest and highest values, so you think it more likely lies outside them. If you meant that you are fairly sure it lies inside, raise the confidence.")
 		}

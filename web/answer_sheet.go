@@ -11,6 +11,8 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // An answer sheet is a CSV (RFC 4180) of judgements sent to the
@@ -50,9 +52,9 @@ const MaxSheetRows = 10000
 // SheetRow is one row of a sheet, read and fitted.
 type SheetRow struct {
 	Line     int // the row's line in the file
-	Expert   elicit.Expert
-	Question elicit.Question
-	Answer   elicit.Answer
+	Expert   workshop.Expert
+	Question workshop.Question
+	Answer   workshop.Answer
 	Reason   string
 	Fit      elicit.Fit
 }
@@ -81,11 +83,11 @@ func QuantileColumn(p float64) string {
 }
 
 // sheetColumns are the answer columns of q's format, in order.
-func sheetColumns(q elicit.Question) []string {
+func sheetColumns(q workshop.Question) []string {
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		return []string{"lowest", "highest", "best", "confidence"}
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		cols := make([]string, max(0, len(q.BinEdges)-1))
 		for i := range cols {
 			cols[i] = "bin" + strconv.Itoa(i+1)
@@ -104,7 +106,7 @@ func sheetColumns(q elicit.Question) []string {
 // the first broken rule as an *elicit.InputError naming the row and the
 // column. Retired questions, calibration questions whose true value is
 // revealed, and revoked experts take no answers here either.
-func ReadAnswerSheet(r io.Reader, questions []elicit.Question, experts []elicit.Expert) ([]SheetRow, error) {
+func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []workshop.Expert) ([]SheetRow, error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -180,7 +182,7 @@ func ReadAnswerSheet(r io.Reader, questions []elicit.Question, experts []elicit.
 
 // readSheetRow reads one row through the expert form's own parser and
 // elicit's rules.
-func readSheetRow(line int, cell func(string) string, questions []elicit.Question, experts []elicit.Expert, col map[string]int) (SheetRow, error) {
+func readSheetRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (SheetRow, error) {
 	row := SheetRow{Line: line}
 	var ok bool
 	if row.Expert, ok = findExpert(cell("expert"), experts); !ok {
@@ -198,7 +200,7 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 	for _, c := range mine {
 		own[c] = true
 		if cell(c) == "" {
-			if _, present := col[c]; !present || q.Format != elicit.FormatChips {
+			if _, present := col[c]; !present || q.Format != workshop.FormatChips {
 				return row, sheetErr(line, c, RuleSheetMissing, "Q%d is asked as %s", q.Position, formatLabel(q))
 			}
 		}
@@ -209,14 +211,14 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 		}
 	}
 	// Each cell by the form's own number rules, the answer by elicit's.
-	var a elicit.Answer
+	var a workshop.Answer
 	num := func(c string) (float64, error) {
-		v, err := parseFloatField(c, cell(c))
+		v, err := input.Number(c, cell(c))
 		return v, underColumn(line, c, err)
 	}
 	var err error
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		for _, f := range []struct {
 			c string
 			v *float64
@@ -226,14 +228,14 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 			}
 		}
 		a.Confidence /= 100 // in percent, as on the expert's form
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		a.Counts = make([]int, len(mine))
 		for i, c := range mine {
 			v := cell(c)
 			if v == "" {
 				continue // an empty bin holds no chips
 			}
-			if a.Counts[i], err = parseIntField(c, v, 0, elicit.MaxChips); err != nil {
+			if a.Counts[i], err = input.Whole(c, v, 0, workshop.MaxChips); err != nil {
 				return row, underColumn(line, c, err)
 			}
 		}
@@ -245,7 +247,7 @@ func readSheetRow(line int, cell func(string) string, questions []elicit.Questio
 			}
 		}
 	}
-	if row.Reason, err = parseTextField("reason", cell("reason"), MaxLongText, false); err != nil {
+	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}
 	fit, err := q.Fit(a)
@@ -290,16 +292,16 @@ func fieldIndex(field string) (int, bool) {
 
 // findExpert finds an active expert by name (case and spaces folded, as
 // sameName) or by id:N.
-func findExpert(s string, experts []elicit.Expert) (elicit.Expert, bool) {
+func findExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) {
 	if id, ok := sheetID(s); ok {
 		for _, e := range experts {
 			if e.ID == id && !e.Revoked {
 				return e, true
 			}
 		}
-		return elicit.Expert{}, false
+		return workshop.Expert{}, false
 	}
-	var found elicit.Expert
+	var found workshop.Expert
 	n := 0
 	for _, e := range experts {
 		if !e.Revoked && sameName(e.Name, s) {
@@ -311,7 +313,7 @@ func findExpert(s string, experts []elicit.Expert) (elicit.Expert, bool) {
 
 // findQuestion finds a question that takes answers by its number (3 or
 // Q3) or by id:N.
-func findQuestion(s string, questions []elicit.Question) (elicit.Question, bool) {
+func findQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
 	id, byID := sheetID(s)
 	pos, err := strconv.Atoi(strings.TrimPrefix(strings.ToUpper(s), "Q"))
 	for _, q := range questions {
@@ -322,7 +324,7 @@ func findQuestion(s string, questions []elicit.Question) (elicit.Question, bool)
 			return q, true
 		}
 	}
-	return elicit.Question{}, false
+	return workshop.Question{}, false
 }
 
 // sheetID reads "id:N".
@@ -342,7 +344,7 @@ const RuleSheetRound elicit.Rule = "the workshop's round is closed, so no answer
 // channel, all in one transaction or none. A refusal by the store (the
 // round closed, a question revealed or retired, an expert revoked since
 // the sheet was read) comes back naming the row it concerns.
-func SaveSheet(ctx context.Context, st Store, ws elicit.Workshop, rows []SheetRow, channel elicit.Channel) error {
+func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []SheetRow, channel workshop.Channel) error {
 	if !ws.Open && len(rows) > 0 {
 		return sheetErr(rows[0].Line, "question", RuleSheetRound, "round %d is closed", ws.Round)
 	}
@@ -356,13 +358,13 @@ func SaveSheet(ctx context.Context, st Store, ws elicit.Workshop, rows []SheetRo
 	}
 	line := rows[i].Line
 	switch {
-	case errors.Is(err, elicit.ErrRoundClosed):
+	case errors.Is(err, workshop.ErrRoundClosed):
 		return sheetErr(line, "question", RuleSheetRound, "round %d is closed", ws.Round)
-	case errors.Is(err, elicit.ErrAnswersFrozen):
+	case errors.Is(err, workshop.ErrAnswersFrozen):
 		return sheetErr(line, "question", RuleSheetQuest, "Q%d's true value has been revealed, so its answers are final", rows[i].Question.Position)
-	case errors.Is(err, elicit.ErrRetired):
+	case errors.Is(err, workshop.ErrRetired):
 		return sheetErr(line, "question", RuleSheetQuest, "Q%d is retired", rows[i].Question.Position)
-	case errors.Is(err, elicit.ErrRevoked), errors.Is(err, elicit.ErrNotFound):
+	case errors.Is(err, workshop.ErrRevoked), errors.Is(err, workshop.ErrNotFound):
 		return sheetErr(line, "expert", RuleSheetExpert, "%s", rows[i].Expert.Name)
 	}
 	return err
@@ -370,11 +372,11 @@ func SaveSheet(ctx context.Context, st Store, ws elicit.Workshop, rows []SheetRo
 
 // SheetRevisions are the rows as revisions the facilitator entered from
 // the given channel.
-func SheetRevisions(rows []SheetRow, channel elicit.Channel) []elicit.Revision {
-	out := make([]elicit.Revision, len(rows))
+func SheetRevisions(rows []SheetRow, channel workshop.Channel) []workshop.Revision {
+	out := make([]workshop.Revision, len(rows))
 	for i, r := range rows {
-		out[i] = elicit.Revision{QuestionID: r.Question.ID, ExpertID: r.Expert.ID, Reason: r.Reason, Answer: r.Answer,
-			EnteredBy: elicit.ByFacilitator, Channel: channel}
+		out[i] = workshop.Revision{QuestionID: r.Question.ID, ExpertID: r.Expert.ID, Reason: r.Reason, Answer: r.Answer,
+			EnteredBy: workshop.ByFacilitator, Channel: channel}
 	}
 	return out
 }

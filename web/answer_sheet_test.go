@@ -14,6 +14,8 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // sheetRig is a workshop of every answer format for the sheet tests (an
@@ -22,9 +24,9 @@ import (
 // calibration question; three experts.
 type sheetRig struct {
 	h       *harness
-	ws      elicit.Workshop
-	qs      []elicit.Question
-	experts []elicit.Expert
+	ws      workshop.Workshop
+	qs      []workshop.Question
+	experts []workshop.Expert
 }
 
 func newSheetRig(t *testing.T) *sheetRig {
@@ -32,19 +34,19 @@ func newSheetRig(t *testing.T) *sheetRig {
 	h := newHarness(t)
 	h.signIn()
 	ctx := context.Background()
-	ws := elicit.Workshop{Title: "Tank survey (invented)", Invented: true}
+	ws := workshop.Workshop{Title: "Tank survey (invented)", Invented: true}
 	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
 		t.Fatal(err)
 	}
 	truth := 0.2
-	qs := []elicit.Question{
-		{Wording: "Share of tanks with wall loss?", Quantity: "wall loss share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsDefault},
-		{Wording: "Share with coating failure?", Quantity: "coating failure share", Lower: 0, Upper: 1, Format: elicit.FormatInterval},
-		{Wording: "Share with sludge above the inlet?", Quantity: "sludge share", Lower: 0, Upper: 1, Format: elicit.FormatChips,
+	qs := []workshop.Question{
+		{Wording: "Share of tanks with wall loss?", Quantity: "wall loss share", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault},
+		{Wording: "Share with coating failure?", Quantity: "coating failure share", Lower: 0, Upper: 1, Format: workshop.FormatInterval},
+		{Wording: "Share with sludge above the inlet?", Quantity: "sludge share", Lower: 0, Upper: 1, Format: workshop.FormatChips,
 			BinEdges: []float64{0, 0.1, 0.2, 0.4, 1}, Chips: 20},
-		{Wording: "Share with a leaking valve?", Quantity: "valve leak share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: elicit.ProbsTertiles},
-		{Wording: "Share of last year's tanks repainted?", Quantity: "repainted share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles,
-			Probs: elicit.ProbsDefault, Calibration: true, TrueValue: &truth},
+		{Wording: "Share with a leaking valve?", Quantity: "valve leak share", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsTertiles},
+		{Wording: "Share of last year's tanks repainted?", Quantity: "repainted share", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles,
+			Probs: workshop.ProbsDefault, Calibration: true, TrueValue: &truth},
 	}
 	for i := range qs {
 		qs[i].WorkshopID = ws.ID
@@ -52,9 +54,9 @@ func newSheetRig(t *testing.T) *sheetRig {
 			t.Fatal(err)
 		}
 	}
-	var es []elicit.Expert
+	var es []workshop.Expert
 	for i, n := range []string{"Ada Quell", "Bruno Ferrante", "Chiara Osei"} {
-		e := elicit.Expert{WorkshopID: ws.ID, Name: n}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: n}
 		if err := h.db.AddExpert(ctx, &e, []byte("sheet-"+strconv.Itoa(i))); err != nil {
 			t.Fatal(err)
 		}
@@ -71,7 +73,7 @@ id:3,Q4,,0.15,,,,,,,,,,0.1,0.2,,
 Chiara Osei,q1,0.01,0.03,0.08,,,,,,,,,,,
 `
 
-func (g *sheetRig) revisions(t *testing.T) []elicit.Revision {
+func (g *sheetRig) revisions(t *testing.T) []workshop.Revision {
 	t.Helper()
 	revs, err := g.h.db.Revisions(context.Background(), g.ws.ID)
 	if err != nil {
@@ -95,13 +97,13 @@ func TestReadAnswerSheet(t *testing.T) {
 		line     int
 		expert   string
 		question int
-		answer   elicit.Answer
+		answer   workshop.Answer
 	}{
-		{2, "Ada Quell", 1, elicit.Answer{Values: []float64{0.02, 0.06, 0.15}}},
-		{3, "Ada Quell", 2, elicit.Answer{Lowest: 0.05, Highest: 0.3, Best: 0.12, Confidence: 0.8}},
-		{4, "Bruno Ferrante", 3, elicit.Answer{Counts: []int{4, 10, 6, 0}}},
-		{5, "Chiara Osei", 4, elicit.Answer{Values: []float64{0.1, 0.15, 0.2}}},
-		{6, "Chiara Osei", 1, elicit.Answer{Values: []float64{0.01, 0.03, 0.08}}},
+		{2, "Ada Quell", 1, workshop.Answer{Values: []float64{0.02, 0.06, 0.15}}},
+		{3, "Ada Quell", 2, workshop.Answer{Lowest: 0.05, Highest: 0.3, Best: 0.12, Confidence: 0.8}},
+		{4, "Bruno Ferrante", 3, workshop.Answer{Counts: []int{4, 10, 6, 0}}},
+		{5, "Chiara Osei", 4, workshop.Answer{Values: []float64{0.1, 0.15, 0.2}}},
+		{6, "Chiara Osei", 1, workshop.Answer{Values: []float64{0.01, 0.03, 0.08}}},
 	}
 	for i, w := range want {
 		r := rows[i]
@@ -155,7 +157,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", RuleSheetColumn},
 		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", RuleSheetMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
-		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", RuleNumberSyntax},
+		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", input.RuleNumberSyntax},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetRepeat},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, RuleSheetHeader},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", RuleSheetQuest},
@@ -170,7 +172,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 			}
 			_, err := ReadAnswerSheet(strings.NewReader(c.sheet), g.qs, g.experts)
 			var ie *elicit.InputError
-			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != RuleNumberSyntax && ie.Rule != c.rule) {
+			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != input.RuleNumberSyntax && ie.Rule != c.rule) {
 				t.Fatalf("got %v, want %s: %s", err, c.field, c.rule)
 			}
 			// Through the web upload too: 422, the message, nothing saved.
@@ -226,12 +228,12 @@ func TestSheetUploadPreviewThenSave(t *testing.T) {
 	if len(revs) != 5 {
 		t.Fatalf("%d revisions saved, want 5", len(revs))
 	}
-	byID := map[int64]elicit.Question{}
+	byID := map[int64]workshop.Question{}
 	for _, q := range g.qs {
 		byID[q.ID] = q
 	}
 	for i, rv := range revs {
-		if rv.EnteredBy != elicit.ByFacilitator || rv.Channel != elicit.ChannelMessage {
+		if rv.EnteredBy != workshop.ByFacilitator || rv.Channel != workshop.ChannelMessage {
 			t.Errorf("revision %d provenance %q %q", i, rv.EnteredBy, rv.Channel)
 		}
 		fit, err := byID[rv.QuestionID].Fit(rv.Answer)

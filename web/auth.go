@@ -11,9 +11,8 @@ import (
 	"time"
 
 	"github.com/go-chi/chi/v5"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"golang.org/x/crypto/bcrypt"
-
-	"github.com/parley-elicit/parley/elicit"
 )
 
 // TokenBytes is the length of every secret Parley issues — the
@@ -211,8 +210,8 @@ type expertKey struct{}
 
 // expertFrom returns the expert whose private link the request came
 // through. Only handlers mounted under /e/{token} may call it.
-func expertFrom(ctx context.Context) elicit.Expert {
-	e, _ := ctx.Value(expertKey{}).(elicit.Expert)
+func expertFrom(ctx context.Context) workshop.Expert {
+	e, _ := ctx.Value(expertKey{}).(workshop.Expert)
 	return e
 }
 
@@ -227,7 +226,7 @@ func (s *Server) requireExpert(next http.Handler) http.Handler {
 			return
 		}
 		e, err := s.store.ExpertByToken(r.Context(), hash)
-		if errors.Is(err, elicit.ErrNotFound) || (err == nil && e.Revoked) {
+		if errors.Is(err, workshop.ErrNotFound) || (err == nil && e.Revoked) {
 			s.linkGone(w, r)
 			return
 		}

@@ -11,6 +11,9 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // calibrationRoutes are a workshop's calibration pages: true values, the
@@ -31,7 +34,7 @@ func calibrationPath(ws int64) string { return workshopPath(ws) + "/calibration"
 // seedRow is one calibration question on the page: who has answered, and
 // its true-value form.
 type seedRow struct {
-	Question    elicit.Question
+	Question    workshop.Question
 	Answered    []string
 	NotAnswered []string
 	Form        *Form
@@ -39,27 +42,27 @@ type seedRow struct {
 
 // calibrationView is the facilitator's calibration page.
 type calibrationView struct {
-	Workshop elicit.Workshop
+	Workshop workshop.Workshop
 	Seeds    []seedRow
-	Skipped  []elicit.SkippedQuestion
+	Skipped  []workshop.SkippedQuestion
 	Pending  int  // calibration questions still without a true value
 	Scored   int  // calibration questions the scores are computed on
 	Ready    bool // every calibration question scored has a true value
 	Probs    []float64
 
 	AlphaForm *Form
-	Perf      *elicit.Performance
+	Perf      *workshop.Performance
 	PerfError string
-	Questions []elicit.Question // the workshop's, for labels and bounds
-	Names     map[int64]string  // experts' names by ID
+	Questions []workshop.Question // the workshop's, for labels and bounds
+	Names     map[int64]string    // experts' names by ID
 
-	Robustness      *elicit.Robustness
+	Robustness      *workshop.Robustness
 	RobustnessError string
 
-	Compare     []elicit.PoolComparison
-	Weights     elicit.Weights // in force
-	InForce     bool           // the weights in force are these performance weights
-	Experts     []elicit.Expert
+	Compare     []workshop.PoolComparison
+	Weights     workshop.Weights // in force
+	InForce     bool             // the weights in force are these performance weights
+	Experts     []workshop.Expert
 	WeightsForm *Form
 }
 
@@ -96,7 +99,7 @@ func alphaOf(f *Form) *float64 {
 
 // showCalibration reads the workshop and renders the page. A bad cut-off
 // in forms.alpha answers 400 with the message beside the field.
-func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, forms calibrationForms) {
+func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status int, ws workshop.Workshop, forms calibrationForms) {
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
@@ -106,7 +109,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		forms.alpha = newForm(nil)
 	}
 	alpha := alphaOf(forms.alpha)
-	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 	v := calibrationView{
 		Workshop: ws, Skipped: set.Skipped, Pending: len(set.Pending), Scored: len(set.Questions), Ready: set.Ready(), Probs: set.Probs,
 		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts,
@@ -136,17 +139,17 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	}
 	perf := map[int64]float64{}
 	if v.Ready && forms.alpha.OK() {
-		p, err := elicit.ScorePerformance(set, alpha)
+		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
 			forms.alpha.Fail(err, nil)
 			v.PerfError = err.Error()
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()
-			if inForce, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
+			if inForce, err := workshop.PerformanceInForce(set, d.Weights); err == nil {
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}
-			if rb, err := elicit.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
+			if rb, err := workshop.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
 				v.RobustnessError = err.Error()
 			} else {
 				v.Robustness = &rb
@@ -154,7 +157,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		}
 	}
 	if v.Ready {
-		v.Compare = elicit.ComparePools(d.Questions, d.Experts, d.Revisions, perf)
+		v.Compare = workshop.ComparePools(d.Questions, d.Experts, d.Revisions, perf)
 	}
 	if !forms.alpha.OK() && status < 400 {
 		status = http.StatusBadRequest
@@ -181,7 +184,7 @@ func sameWeightMap(a, b map[int64]float64) bool {
 }
 
 // freshWeightsForm is the weights form filled with the weights in force.
-func freshWeightsForm(wt elicit.Weights, experts []elicit.Expert, alpha string) *Form {
+func freshWeightsForm(wt workshop.Weights, experts []workshop.Expert, alpha string) *Form {
 	f := newForm(nil)
 	f.Values.Set("scheme", string(wt.Scheme))
 	f.Values.Set("alpha", alpha)
@@ -216,7 +219,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	// A revealed value is visible to the experts, so changing it is
 	// recorded as a reveal, with its reason.
 	reveal := f.Checked("reveal") || q.Revealed
-	reason := f.Text("reason", MaxLongText, reveal)
+	reason := f.Text("reason", input.MaxLongText, reveal)
 	if f.OK() {
 		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)
 		switch {
@@ -239,7 +242,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 // calibration page, with the required reason. Performance weights are the
 // classical model's weights on the experts' current answers with the
 // page's cut-off (optimised when empty), stored with their basis
-// (elicit.WeightBasis); custom weights are typed per expert, as on a
+// (workshop.WeightBasis); custom weights are typed per expert, as on a
 // question's panel, and stored as typed.
 func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
@@ -247,18 +250,18 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsPerformance), string(elicit.WeightsCustom)))
-	reason := f.Text("reason", MaxLongText, true)
+	scheme := workshop.WeightScheme(f.Choice("scheme", "", string(workshop.WeightsEqual), string(workshop.WeightsPerformance), string(workshop.WeightsCustom)))
+	reason := f.Text("reason", input.MaxLongText, true)
 	alpha := alphaOf(f)
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	wt := elicit.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
+	wt := workshop.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
 	switch scheme {
-	case elicit.WeightsPerformance:
-		set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	case workshop.WeightsPerformance:
+		set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 		if !set.Ready() {
 			f.set("scheme", "performance weights need every calibration question answered and given its true value")
 			break
@@ -266,16 +269,16 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		if !f.OK() {
 			break
 		}
-		p, err := elicit.ScorePerformance(set, alpha)
+		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
 			f.Fail(err, map[string]string{"experts": "scheme"})
 			break
 		}
 		// The set keeps what made it: scores, cut-off, true values and
 		// the answers scored.
-		basis := elicit.NewWeightBasis(set, p)
+		basis := workshop.NewWeightBasis(set, p)
 		wt.ByExpert, wt.Basis = p.WeightsByExpert(), &basis
-	case elicit.WeightsCustom:
+	case workshop.WeightsCustom:
 		wt.ByExpert = map[int64]float64{}
 		for _, e := range d.Experts {
 			if e.Revoked {
@@ -320,7 +323,7 @@ func isInputError(err error) bool {
 }
 
 // strengthView is the warnings block about a performance weighting
-// (elicit.CalibrationWarnings) and the sentence that says which weighting
+// (workshop.CalibrationWarnings) and the sentence that says which weighting
 // it is about. It is empty when there is nothing to warn of.
 type strengthView struct {
 	Lead     string
@@ -333,13 +336,13 @@ type strengthView struct {
 // calibration page offers, once every scored calibration question has
 // its true value.
 func panelStrength(d workshopData) strengthView {
-	set := elicit.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
-	if d.Weights.Scheme == elicit.WeightsPerformance {
+	set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	if d.Weights.Scheme == workshop.WeightsPerformance {
 		v := strengthView{Lead: "The performance weights in force rest on weak ground:"}
 		if b := d.Weights.Basis; b != nil {
 			v.Warnings = b.Warnings
 		} else if set.Ready() {
-			if p, err := elicit.PerformanceInForce(set, d.Weights); err == nil {
+			if p, err := workshop.PerformanceInForce(set, d.Weights); err == nil {
 				v.Warnings = p.Warnings
 			}
 		}
@@ -348,7 +351,7 @@ func panelStrength(d workshopData) strengthView {
 	if !set.Ready() {
 		return strengthView{}
 	}
-	p, err := elicit.ScorePerformance(set, nil)
+	p, err := workshop.ScorePerformance(set, nil)
 	if err != nil {
 		return strengthView{}
 	}
@@ -357,8 +360,8 @@ func panelStrength(d workshopData) strengthView {
 
 // basisInForce is the basis of the record's weights in force, when they
 // are performance weights that keep one.
-func basisInForce(r elicit.Record) *elicit.WeightBasis {
-	if r.Weights.Scheme != elicit.WeightsPerformance {
+func basisInForce(r record.Record) *workshop.WeightBasis {
+	if r.Weights.Scheme != workshop.WeightsPerformance {
 		return nil
 	}
 	return r.Weights.Basis
@@ -367,7 +370,7 @@ func basisInForce(r elicit.Record) *elicit.WeightBasis {
 // weightSetRow is one weight set of a record's history as the report
 // lists it.
 type weightSetRow struct {
-	Set      elicit.Weights
+	Set      workshop.Weights
 	Scheme   string
 	Weights  string // each expert's weight in words
 	MadeFrom string
@@ -378,8 +381,8 @@ type weightSetRow struct {
 
 // weightSetRows lists every weight set of the record, oldest first, with
 // what it was made from and the agreed priors recorded while it was in
-// force (elicit.AgreedPrior.WeightSetID).
-func weightSetRows(r elicit.Record) []weightSetRow {
+// force (workshop.AgreedPrior.WeightSetID).
+func weightSetRows(r record.Record) []weightSetRow {
 	names := map[int64]string{}
 	for _, e := range r.Experts {
 		names[e.ID] = e.Name
@@ -397,12 +400,12 @@ func weightSetRows(r elicit.Record) []weightSetRow {
 	for _, w := range r.WeightHistory {
 		row := weightSetRow{Set: w, InForce: w.ID == r.Weights.ID, Priors: strings.Join(priors[w.ID], "; ")}
 		switch w.Scheme {
-		case elicit.WeightsEqual:
+		case workshop.WeightsEqual:
 			row.Scheme, row.Weights, row.MadeFrom = "equal", "every active expert alike", "—"
-		case elicit.WeightsCustom:
+		case workshop.WeightsCustom:
 			row.Scheme, row.MadeFrom = "set by the facilitator", "the facilitator's own weights, as typed (each share is its weight over their sum)"
 			row.Weights = weightList(w.ByExpert, names, func(v float64) string { return fv(v) })
-		case elicit.WeightsPerformance:
+		case workshop.WeightsPerformance:
 			row.Scheme = "performance"
 			if b := w.Basis; b != nil {
 				row.Weights = weightList(b.WeightsByExpert(), names, pct)
@@ -444,7 +447,7 @@ func weightList(w map[int64]float64, names map[int64]string, format func(float64
 
 // basisSentence says in words what a set of performance weights was made
 // from.
-func basisSentence(b elicit.WeightBasis, labels map[int64]string) string {
+func basisSentence(b workshop.WeightBasis, labels map[int64]string) string {
 	var qs []string
 	for _, q := range b.Questions {
 		l, ok := labels[q.QuestionID]
@@ -459,7 +462,7 @@ func basisSentence(b elicit.WeightBasis, labels map[int64]string) string {
 		qs = append(qs, l)
 	}
 	rule := "optimised"
-	if b.AlphaRule == elicit.AlphaFixed {
+	if b.AlphaRule == workshop.AlphaFixed {
 		rule = "fixed by the facilitator"
 	}
 	return "Cooke's classical model on " + strconv.Itoa(len(b.Questions)) + " calibration " + plural(len(b.Questions), "question", "questions") +
@@ -470,11 +473,11 @@ func basisSentence(b elicit.WeightBasis, labels map[int64]string) string {
 // strengthShort names a calibration warning in a few words.
 func strengthShort(c elicit.WarningCode) string {
 	switch c {
-	case elicit.WarnFewCalibrationQuestions:
-		return "fewer than " + strconv.Itoa(elicit.RecommendedCalibrationQuestions) + " calibration questions"
-	case elicit.WarnOneExpertDominates:
-		return "one expert has more than " + pct(elicit.DominantWeight) + " of the weight"
-	case elicit.WarnUnequalCalibrationAnswers:
+	case workshop.WarnFewCalibrationQuestions:
+		return "fewer than " + strconv.Itoa(workshop.RecommendedCalibrationQuestions) + " calibration questions"
+	case workshop.WarnOneExpertDominates:
+		return "one expert has more than " + pct(workshop.DominantWeight) + " of the weight"
+	case workshop.WarnUnequalCalibrationAnswers:
 		return "experts answered different numbers of calibration questions"
 	}
 	return string(c)

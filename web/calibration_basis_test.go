@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // TestRecordReproducesEachPool runs the invented gasket panel through the
@@ -39,7 +41,7 @@ func TestRecordReproducesEachPool(t *testing.T) {
 		t.Fatalf("agree: %d %s", res.StatusCode, body)
 	}
 	// Cem changes his mind on the target after the agreement.
-	rv := elicit.Revision{QuestionID: target.ID, ExpertID: p.experts[2].ID, Answer: elicit.Answer{Values: []float64{0.02, 0.08, 0.2}}}
+	rv := workshop.Revision{QuestionID: target.ID, ExpertID: p.experts[2].ID, Answer: workshop.Answer{Values: []float64{0.02, 0.08, 0.2}}}
 	if err := h.db.SaveRevision(ctx, &rv); err != nil {
 		t.Fatal(err)
 	}
@@ -54,7 +56,7 @@ func TestRecordReproducesEachPool(t *testing.T) {
 	if res.StatusCode != http.StatusOK {
 		t.Fatalf("export: %d", res.StatusCode)
 	}
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -66,16 +68,16 @@ func TestRecordReproducesEachPool(t *testing.T) {
 	if b := hist[1].ByExpert; b[p.experts[0].ID] != 3 || b[p.experts[2].ID] != 1.5 || hist[1].Reason != "a comparison (invented)" {
 		t.Errorf("custom set %+v", hist[1])
 	}
-	if hist[0].Basis.AlphaRule != elicit.AlphaOptimised || hist[2].Basis.AlphaRule != elicit.AlphaFixed || hist[2].Basis.Alpha != 0 {
+	if hist[0].Basis.AlphaRule != workshop.AlphaOptimised || hist[2].Basis.AlphaRule != workshop.AlphaFixed || hist[2].Basis.Alpha != 0 {
 		t.Errorf("cut-off rules %s %v, %s %v", hist[0].Basis.AlphaRule, hist[0].Basis.Alpha, hist[2].Basis.AlphaRule, hist[2].Basis.Alpha)
 	}
-	revisions := map[int64]elicit.RecordRevision{}
+	revisions := map[int64]record.Revision{}
 	for _, rv := range rec.Revisions {
 		revisions[rv.ID] = rv
 	}
 	// reproduce recomputes a set's weights by expert ID from its basis
 	// only: the stored answers, true values and bounds, and cut-off rule.
-	reproduce := func(set elicit.Weights) map[int64]float64 {
+	reproduce := func(set workshop.Weights) map[int64]float64 {
 		t.Helper()
 		b := set.Basis
 		var as []elicit.SeedAssessment
@@ -94,7 +96,7 @@ func TestRecordReproducesEachPool(t *testing.T) {
 			truths["q"+itoa(q.QuestionID)], bounds["q"+itoa(q.QuestionID)] = *q.TrueValue, [2]float64{q.Lower, q.Upper}
 		}
 		opt := elicit.ModelOptions{Overshoot: b.Overshoot}
-		if b.AlphaRule == elicit.AlphaFixed {
+		if b.AlphaRule == workshop.AlphaFixed {
 			opt.Alpha = &b.Alpha
 		}
 		sc, err := elicit.ClassicalModel(as, truths, bounds, opt)
@@ -150,7 +152,7 @@ func TestRecordReproducesEachPool(t *testing.T) {
 
 	// The agreed prior from the pool names set A and is the best single
 	// Beta of the pool of the fits standing when it was agreed.
-	var rq elicit.RecordQuestion
+	var rq record.Question
 	for _, q := range rec.Questions {
 		if q.ID == target.ID {
 			rq = q
@@ -275,7 +277,7 @@ func TestQuestionExportUnderPerformanceWeights(t *testing.T) {
 	}
 	qp := questionPath(p.ws.ID, p.targets[0].ID)
 	_, js := h.get(qp + "/export.json")
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatalf("one question's record does not parse: %v", err)
 	}

@@ -9,7 +9,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // cpuPerOp reports, besides ns/op, the process's CPU time per operation
@@ -49,19 +49,19 @@ func BenchmarkCalibrationPageDemo(b *testing.B) {
 
 // largePanel is an invented panel of 20 experts, 15 calibration
 // questions at 5/50/95 with true values, and 2 target questions.
-func largePanel(b *testing.B) (*harness, elicit.Workshop, elicit.Question) {
+func largePanel(b *testing.B) (*harness, workshop.Workshop, workshop.Question) {
 	h := newHarness(b)
 	h.signIn()
 	ctx := context.Background()
-	ws := elicit.Workshop{Title: "Large invented panel", Invented: true}
+	ws := workshop.Workshop{Title: "Large invented panel", Invented: true}
 	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
 		b.Fatal(err)
 	}
 	rng := rand.New(rand.NewPCG(3, 4))
-	var qs []elicit.Question
+	var qs []workshop.Question
 	for i := 0; i < 17; i++ {
-		q := elicit.Question{WorkshopID: ws.ID, Wording: "Invented " + strconv.Itoa(i), Quantity: "share " + strconv.Itoa(i),
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+		q := workshop.Question{WorkshopID: ws.ID, Wording: "Invented " + strconv.Itoa(i), Quantity: "share " + strconv.Itoa(i),
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
 		if i >= 2 {
 			tv := 0.1 + 0.8*rng.Float64()
 			q.Calibration, q.TrueValue = true, &tv
@@ -76,7 +76,7 @@ func largePanel(b *testing.B) (*harness, elicit.Workshop, elicit.Question) {
 		for _, q := range qs {
 			m := 0.1 + 0.8*rng.Float64()
 			w := 0.02 + 0.2*rng.Float64()
-			rv := elicit.Revision{QuestionID: q.ID, ExpertID: ex.ID, Answer: elicit.Answer{Values: []float64{
+			rv := workshop.Revision{QuestionID: q.ID, ExpertID: ex.ID, Answer: workshop.Answer{Values: []float64{
 				max(0.001, m-w), m, min(0.999, m+w)}}}
 			if err := h.db.SaveRevision(ctx, &rv); err != nil {
 				b.Fatal(err)

@@ -9,6 +9,8 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // block is the HTML of the element with id, up to its own closing tag
@@ -64,7 +66,7 @@ func strengthCodes(body, id string) map[string]bool {
 	return out
 }
 
-var allStrengthWarnings = []elicit.WarningCode{elicit.WarnFewCalibrationQuestions, elicit.WarnOneExpertDominates, elicit.WarnUnequalCalibrationAnswers}
+var allStrengthWarnings = []elicit.WarningCode{workshop.WarnFewCalibrationQuestions, workshop.WarnOneExpertDominates, workshop.WarnUnequalCalibrationAnswers}
 
 // TestCalibrationWarningsOnTheDemo: the invented demo scores four
 // calibration questions, its optimised cut-off gives Ines Varga all the
@@ -125,7 +127,7 @@ func TestCalibrationWarningsOnTheDemo(t *testing.T) {
 	check("report", body, "record-strength", "How far these scores can carry weights:")
 
 	_, js := h.get(workshopPath(ws.ID) + "/export.json")
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatal(err)
 	}

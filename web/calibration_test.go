@@ -10,6 +10,8 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // seedPanel is an invented panel on gasket wear with four experts (Bo
@@ -18,12 +20,12 @@ import (
 // out of the scores) and two target questions.
 type seedPanel struct {
 	h       *harness
-	ws      elicit.Workshop
-	experts []elicit.Expert
+	ws      workshop.Workshop
+	experts []workshop.Expert
 	tokens  []string
-	seeds   []elicit.Question // the three 5/50/95 calibration questions
-	quart   elicit.Question
-	targets []elicit.Question
+	seeds   []workshop.Question // the three 5/50/95 calibration questions
+	quart   workshop.Question
+	targets []workshop.Question
 }
 
 var (
@@ -49,12 +51,12 @@ func newSeedPanel(t *testing.T) *seedPanel {
 	h.signIn()
 	ctx := context.Background()
 	p := &seedPanel{h: h}
-	p.ws = elicit.Workshop{Title: "Gasket wear (invented)", Purpose: "Invented test panel", Invented: true}
+	p.ws = workshop.Workshop{Title: "Gasket wear (invented)", Purpose: "Invented test panel", Invented: true}
 	if err := h.db.CreateWorkshop(ctx, &p.ws); err != nil {
 		t.Fatal(err)
 	}
-	add := func(q elicit.Question) elicit.Question {
-		q.WorkshopID, q.Lower, q.Upper, q.Format = p.ws.ID, 0, 1, elicit.FormatQuantiles
+	add := func(q workshop.Question) workshop.Question {
+		q.WorkshopID, q.Lower, q.Upper, q.Format = p.ws.ID, 0, 1, workshop.FormatQuantiles
 		if q.Probs == nil {
 			q.Probs = []float64{0.05, 0.5, 0.95}
 		}
@@ -63,24 +65,24 @@ func newSeedPanel(t *testing.T) *seedPanel {
 		}
 		return q
 	}
-	p.targets = append(p.targets, add(elicit.Question{Wording: "Share of gaskets worn out in year one?", Quantity: "worn share"}))
+	p.targets = append(p.targets, add(workshop.Question{Wording: "Share of gaskets worn out in year one?", Quantity: "worn share"}))
 	for i := range seedTruths {
-		p.seeds = append(p.seeds, add(elicit.Question{Wording: "Seed " + strconv.Itoa(i+1), Quantity: "seed share " + strconv.Itoa(i+1), Calibration: true}))
+		p.seeds = append(p.seeds, add(workshop.Question{Wording: "Seed " + strconv.Itoa(i+1), Quantity: "seed share " + strconv.Itoa(i+1), Calibration: true}))
 	}
-	p.quart = add(elicit.Question{Wording: "Quartile seed", Quantity: "quartile seed share", Probs: elicit.ProbsQuartiles, Calibration: true})
-	p.targets = append(p.targets, add(elicit.Question{Wording: "Share of seals leaking in year one?", Quantity: "leak share"}))
+	p.quart = add(workshop.Question{Wording: "Quartile seed", Quantity: "quartile seed share", Probs: workshop.ProbsQuartiles, Calibration: true})
+	p.targets = append(p.targets, add(workshop.Question{Wording: "Share of seals leaking in year one?", Quantity: "leak share"}))
 	for i, name := range seedNames {
 		token, hash, err := newToken()
 		if err != nil {
 			t.Fatal(err)
 		}
-		e := elicit.Expert{WorkshopID: p.ws.ID, Name: name}
+		e := workshop.Expert{WorkshopID: p.ws.ID, Name: name}
 		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
 			t.Fatal(err)
 		}
 		p.experts, p.tokens = append(p.experts, e), append(p.tokens, token)
-		save := func(q elicit.Question, v []float64) {
-			rv := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: elicit.Answer{Values: v}}
+		save := func(q workshop.Question, v []float64) {
+			rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: v}}
 			if err := h.db.SaveRevision(ctx, &rv); err != nil {
 				t.Fatal(err)
 			}
@@ -244,7 +246,7 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 		var dists []elicit.ScaledBeta
 		var perf []float64
 		for i, name := range seedNames {
-			f, err := q.Fit(elicit.Answer{Values: targetAnswers[i][k]})
+			f, err := q.Fit(workshop.Answer{Values: targetAnswers[i][k]})
 			if err != nil {
 				t.Fatal(err)
 			}
@@ -279,7 +281,7 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 	for k, q := range p.targets {
 		rt := elicit.RobustnessTarget{Question: q.Quantity, Fits: map[string]elicit.ScaledBeta{}}
 		for i, name := range seedNames {
-			f, _ := q.Fit(elicit.Answer{Values: targetAnswers[i][k]})
+			f, _ := q.Fit(workshop.Answer{Values: targetAnswers[i][k]})
 			rt.Fits[name] = f.Dist
 		}
 		targets = append(targets, rt)
@@ -395,7 +397,7 @@ func TestTrueValueRefusedBesideTheField(t *testing.T) {
 		t.Fatalf("stored %+v", got)
 	}
 	evs, _ := h.db.Events(ctx, p.ws.ID)
-	if last := evs[len(evs)-1]; last.Kind != elicit.EventTruthRevealed || last.Reason != "all in (invented)" || last.QuestionID != q.ID {
+	if last := evs[len(evs)-1]; last.Kind != workshop.EventTruthRevealed || last.Reason != "all in (invented)" || last.QuestionID != q.ID {
 		t.Fatalf("last event %+v", last)
 	}
 	// Changing a revealed value needs a reason and is recorded.
@@ -407,7 +409,7 @@ func TestTrueValueRefusedBesideTheField(t *testing.T) {
 		t.Fatalf("changing a revealed value: %d", res.StatusCode)
 	}
 	evs, _ = h.db.Events(ctx, p.ws.ID)
-	if last := evs[len(evs)-1]; last.Kind != elicit.EventTruthRevealed || last.Reason != "typo (invented)" || !strings.Contains(last.Detail, "0.3175") {
+	if last := evs[len(evs)-1]; last.Kind != workshop.EventTruthRevealed || last.Reason != "typo (invented)" || !strings.Contains(last.Detail, "0.3175") {
 		t.Fatalf("change of a revealed value recorded as %+v", last)
 	}
 }
@@ -437,7 +439,7 @@ func TestPerformanceWeightsChangeThePool(t *testing.T) {
 	}
 	wt, _ := h.db.Weights(ctx, p.ws.ID)
 	sc := model(t, nil).Weights()
-	if wt.Scheme != elicit.WeightsPerformance || wt.Reason != "Bo missed every seed (invented)" {
+	if wt.Scheme != workshop.WeightsPerformance || wt.Reason != "Bo missed every seed (invented)" {
 		t.Fatalf("stored weights %+v", wt)
 	}
 	for _, e := range p.experts {
@@ -446,14 +448,14 @@ func TestPerformanceWeightsChangeThePool(t *testing.T) {
 		}
 	}
 	evs, _ := h.db.Events(ctx, p.ws.ID)
-	if last := evs[len(evs)-1]; last.Kind != elicit.EventWeightsSet || last.Reason != wt.Reason {
+	if last := evs[len(evs)-1]; last.Kind != workshop.EventWeightsSet || last.Reason != wt.Reason {
 		t.Fatalf("last event %+v", last)
 	}
 	// The target question's pool is now the performance-weighted one.
 	var dists []elicit.ScaledBeta
 	var ws []float64
 	for i, name := range seedNames {
-		f, _ := p.targets[0].Fit(elicit.Answer{Values: targetAnswers[i][0]})
+		f, _ := p.targets[0].Fit(workshop.Answer{Values: targetAnswers[i][0]})
 		dists, ws = append(dists, f.Dist), append(ws, sc[name])
 	}
 	perf, _ := elicit.LinearPool(dists, ws)
@@ -472,7 +474,7 @@ func TestPerformanceWeightsChangeThePool(t *testing.T) {
 	if res, _ := h.post(p.path()+"/weights", url.Values{"scheme": {"equal"}, "reason": {"compare (invented)"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("equal weights: %d", res.StatusCode)
 	}
-	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != elicit.WeightsEqual {
+	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != workshop.WeightsEqual {
 		t.Fatalf("stored %+v", wt)
 	}
 }
@@ -509,7 +511,7 @@ func TestReportAndExportCarryTheScores(t *testing.T) {
 	if res.StatusCode != http.StatusOK {
 		t.Fatalf("export: %d", res.StatusCode)
 	}
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -539,7 +541,7 @@ func TestExpertPagesNeverShowTruthsOrScores(t *testing.T) {
 	}
 	forbidden := []string{"Calibration ×", "calibration score", "Information", "Weight", "Cut-off", "decision maker"}
 	anon := newHarnessClient(h)
-	questions := append(append(append([]elicit.Question{}, p.seeds...), p.quart), p.targets...)
+	questions := append(append(append([]workshop.Question{}, p.seeds...), p.quart), p.targets...)
 	check := func(stage string, truthsHidden bool) {
 		for i, token := range p.tokens {
 			paths := []string{expertPath(token)}
@@ -614,7 +616,7 @@ func TestCalibrationCustomAndFixedCutOffWeights(t *testing.T) {
 	if res, body := h.post(p.path()+"/weights", custom); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("custom weights: %d %s", res.StatusCode, body)
 	}
-	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != elicit.WeightsCustom || wt.ByExpert[p.experts[0].ID] != 2 || wt.ByExpert[p.experts[1].ID] != 0 {
+	if wt, _ := h.db.Weights(ctx, p.ws.ID); wt.Scheme != workshop.WeightsCustom || wt.ByExpert[p.experts[0].ID] != 2 || wt.ByExpert[p.experts[1].ID] != 0 {
 		t.Fatalf("stored %+v", wt)
 	}
 	// Performance weights with a fixed cut-off of 0: every expert weighted
@@ -633,11 +635,11 @@ func TestCalibrationCustomAndFixedCutOffWeights(t *testing.T) {
 	}
 	p.enterTruths(t, true)
 	_, js := h.get(workshopPath(p.ws.ID) + "/export.json")
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatal(err)
 	}
-	if perf := rec.Performance; perf == nil || perf.Alpha != 0 || perf.AlphaRule != elicit.AlphaFixed || !perf.InForce {
+	if perf := rec.Performance; perf == nil || perf.Alpha != 0 || perf.AlphaRule != workshop.AlphaFixed || !perf.InForce {
 		t.Fatalf("exported performance %+v, want the fixed cut-off 0 in force", rec.Performance)
 	}
 	// A cut-off above every calibration score is refused, nothing saved.

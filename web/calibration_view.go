@@ -7,6 +7,8 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -33,7 +35,7 @@ func namesOrNobody(names []string) string {
 
 // alphaSentence says what the cut-off is and how it was chosen.
 func alphaSentence(alpha float64, rule string) string {
-	if rule == elicit.AlphaFixed {
+	if rule == workshop.AlphaFixed {
 		return "Cut-off α = " + fv(alpha) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
 	}
 	return "Cut-off α = " + fv(alpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
@@ -41,7 +43,7 @@ func alphaSentence(alpha float64, rule string) string {
 }
 
 // recordLabels are "Q1 quantity" labels of a record's questions by ID.
-func recordLabels(r elicit.Record) map[int64]string {
+func recordLabels(r record.Record) map[int64]string {
 	m := map[int64]string{}
 	for _, q := range r.Questions {
 		m[q.ID] = "Q" + strconv.Itoa(q.Position) + " " + q.Quantity
@@ -49,15 +51,15 @@ func recordLabels(r elicit.Record) map[int64]string {
 	return m
 }
 
-func recordQuestions(r elicit.Record) []elicit.Question {
-	qs := make([]elicit.Question, len(r.Questions))
+func recordQuestions(r record.Record) []workshop.Question {
+	qs := make([]workshop.Question, len(r.Questions))
 	for i, q := range r.Questions {
 		qs[i] = q.Question
 	}
 	return qs
 }
 
-func expertNames(es []elicit.Expert) map[int64]string {
+func expertNames(es []workshop.Expert) map[int64]string {
 	m := make(map[int64]string, len(es))
 	for _, e := range es {
 		m[e.ID] = e.Name
@@ -68,13 +70,13 @@ func expertNames(es []elicit.Expert) map[int64]string {
 // scoreLine is one expert's row of the scores table, with why their
 // weight is what it is.
 type scoreLine struct {
-	elicit.PerformanceExpert
+	workshop.PerformanceExpert
 	Why string
 }
 
 // scoreLines explains each expert's weight under the cut-off alpha: the
 // product calibration × information that earns it, or the reason it is 0.
-func scoreLines(experts []elicit.PerformanceExpert, alpha float64) []scoreLine {
+func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine {
 	total := 0.0
 	for _, e := range experts {
 		if e.Weight > 0 {
@@ -101,7 +103,7 @@ func scoreLines(experts []elicit.PerformanceExpert, alpha float64) []scoreLine {
 }
 
 // scoresPicture is the weight map of the experts who have scores.
-func scoresPicture(id string, experts []elicit.PerformanceExpert, pooled elicit.PooledScore, alpha float64) chart.ScoresView {
+func scoresPicture(id string, experts []workshop.PerformanceExpert, pooled elicit.PooledScore, alpha float64) chart.ScoresView {
 	v := chart.ScoresView{ID: id, Alpha: alpha}
 	for _, e := range experts {
 		if e.Answered > 0 {
@@ -136,14 +138,14 @@ type steadiness struct {
 	Of      string // what the watched questions are, in words
 }
 
-func poolText(p elicit.Percentiles) string {
+func poolText(p workshop.Percentiles) string {
 	return fv(p.P05) + " · " + fv(p.P50) + " · " + fv(p.P95)
 }
 
 // newSteadiness prepares rb for the page; questions give the labels and
 // bounds of the watched questions, names the experts'.
-func newSteadiness(id string, rb *elicit.Robustness, questions []elicit.Question, names map[int64]string) steadiness {
-	byID := map[int64]elicit.Question{}
+func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Question, names map[int64]string) steadiness {
+	byID := map[int64]workshop.Question{}
 	for _, q := range questions {
 		byID[q.ID] = q
 	}
@@ -154,7 +156,7 @@ func newSteadiness(id string, rb *elicit.Robustness, questions []elicit.Question
 		return "question " + strconv.FormatInt(id, 10)
 	}
 	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fv(rb.Largest)}
-	full := map[int64]elicit.Percentiles{}
+	full := map[int64]workshop.Percentiles{}
 	for _, p := range rb.Full {
 		full[p.QuestionID] = p.Percentiles
 	}
@@ -197,7 +199,7 @@ func newSteadiness(id string, rb *elicit.Robustness, questions []elicit.Question
 			l.Label = "expert " + r.Label
 		}
 		l.WeightTo = weightGoesTo(r.Weights, names)
-		pools := map[int64]elicit.Percentiles{}
+		pools := map[int64]workshop.Percentiles{}
 		for _, p := range r.Pools {
 			pools[p.QuestionID] = p.Percentiles
 		}
@@ -225,8 +227,8 @@ func newSteadiness(id string, rb *elicit.Robustness, questions []elicit.Question
 }
 
 // weightGoesTo names the experts with weight in a rerun, largest first.
-func weightGoesTo(ws []elicit.ExpertWeight, names map[int64]string) string {
-	ws = append([]elicit.ExpertWeight(nil), ws...)
+func weightGoesTo(ws []workshop.ExpertWeight, names map[int64]string) string {
+	ws = append([]workshop.ExpertWeight(nil), ws...)
 	sort.SliceStable(ws, func(i, j int) bool { return ws[i].Weight > ws[j].Weight })
 	var parts []string
 	for _, w := range ws {

@@ -1,37 +1,37 @@
 package web
 
-import "github.com/parley-elicit/parley/elicit"
+import "github.com/parley-elicit/parley/elicit/workshop"
 
 // channelLabel names a channel for the facilitator: how a judgement they
 // entered reached them.
-func channelLabel(c elicit.Channel) string {
+func channelLabel(c workshop.Channel) string {
 	switch c {
-	case elicit.ChannelInPerson:
+	case workshop.ChannelInPerson:
 		return "said in the session (typed by me)"
-	case elicit.ChannelPhone:
+	case workshop.ChannelPhone:
 		return "by phone"
-	case elicit.ChannelPaperForm:
+	case workshop.ChannelPaperForm:
 		return "from a paper form"
-	case elicit.ChannelMessage:
+	case workshop.ChannelMessage:
 		return "by e-mail or message"
-	case elicit.ChannelFile:
+	case workshop.ChannelFile:
 		return "from a spreadsheet file"
 	}
 	return string(c)
 }
 
 // channelForExpert says the same to the expert whose judgement it is.
-func channelForExpert(c elicit.Channel) string {
+func channelForExpert(c workshop.Channel) string {
 	switch c {
-	case elicit.ChannelInPerson:
+	case workshop.ChannelInPerson:
 		return "from what you said in the session"
-	case elicit.ChannelPhone:
+	case workshop.ChannelPhone:
 		return "from your call"
-	case elicit.ChannelPaperForm:
+	case workshop.ChannelPaperForm:
 		return "from your paper form"
-	case elicit.ChannelMessage:
+	case workshop.ChannelMessage:
 		return "from your e-mail or message"
-	case elicit.ChannelFile:
+	case workshop.ChannelFile:
 		return "from a spreadsheet you sent"
 	}
 	return ""
@@ -39,8 +39,8 @@ func channelForExpert(c elicit.Channel) string {
 
 // provenance is a revision's who-and-how for the facilitator's tables:
 // "expert" or "facilitator, from a paper form".
-func provenance(rv elicit.Revision) string {
-	if rv.EnteredBy == elicit.ByFacilitator {
+func provenance(rv workshop.Revision) string {
+	if rv.EnteredBy == workshop.ByFacilitator {
 		return "facilitator, " + channelLabel(rv.Channel)
 	}
 	return "expert"

@@ -10,10 +10,11 @@ import (
 	"testing"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-func lastEvent(t *testing.T, h *harness, ws int64) elicit.Event {
+func lastEvent(t *testing.T, h *harness, ws int64) workshop.Event {
 	t.Helper()
 	evs, err := h.db.Events(context.Background(), ws)
 	if err != nil || len(evs) == 0 {
@@ -58,7 +59,7 @@ func TestCorrectQuestion(t *testing.T) {
 		t.Fatalf("corrected question: %+v", got)
 	}
 	ev := lastEvent(t, h, ws.ID)
-	if ev.Kind != elicit.EventQuestionEdited || !strings.Contains(ev.Detail, "What shre of pumps fail?") || ev.Reason == "" {
+	if ev.Kind != workshop.EventQuestionEdited || !strings.Contains(ev.Detail, "What shre of pumps fail?") || ev.Reason == "" {
 		t.Fatalf("correction event %+v", ev)
 	}
 	if _, body := h.get(wp + "/log"); !strings.Contains(body, "Question corrected") || !strings.Contains(body, "wording was “What shre of pumps fail?”") {
@@ -97,13 +98,13 @@ func TestCorrectQuestion(t *testing.T) {
 	}
 	// The record keeps every earlier text in its events.
 	_, body := h.get(wp + "/export.json")
-	var rec elicit.Record
+	var rec record.Record
 	if err := json.Unmarshal([]byte(body), &rec); err != nil {
 		t.Fatal(err)
 	}
 	var edits int
 	for _, e := range rec.Events {
-		if e.Kind == elicit.EventQuestionEdited {
+		if e.Kind == workshop.EventQuestionEdited {
 			edits++
 		}
 	}
@@ -124,7 +125,7 @@ func TestRetireQuestion(t *testing.T) {
 	if r, _ := h.post(retire, url.Values{"action": {"retire"}, "retire_reason": {"Asked twice (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("retire: %d", r.StatusCode)
 	}
-	if ev := lastEvent(t, h, ws.ID); ev.Kind != elicit.EventQuestionRetired || ev.Reason != "Asked twice (invented)." {
+	if ev := lastEvent(t, h, ws.ID); ev.Kind != workshop.EventQuestionRetired || ev.Reason != "Asked twice (invented)." {
 		t.Fatalf("retire event %+v", ev)
 	}
 	_, home := h.get(links[0].Path)
@@ -172,7 +173,7 @@ func TestReopenRound(t *testing.T) {
 	if w, _ := h.db.Workshop(context.Background(), ws.ID); !w.Open || w.Round != 1 {
 		t.Fatalf("after reopening: %+v", w)
 	}
-	if ev := lastEvent(t, h, ws.ID); ev.Kind != elicit.EventRoundReopened || ev.Reason != "Closed by mistake (invented)." {
+	if ev := lastEvent(t, h, ws.ID); ev.Kind != workshop.EventRoundReopened || ev.Reason != "Closed by mistake (invented)." {
 		t.Fatalf("reopen event %+v", ev)
 	}
 	if r, _ := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{

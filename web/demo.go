@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // DemoLink is one demo expert's private link, returned once by SeedDemo
@@ -21,7 +21,7 @@ func ptr(v float64) *float64 { return &v }
 // eliciting the proportion of a new inverter model that fails in its
 // first year. Every name, number and "true value" below is made up.
 var (
-	demoWorkshop = elicit.Workshop{
+	demoWorkshop = workshop.Workshop{
 		Title: "Invented demo: first-year failures of the HX-40 inverter",
 		Purpose: "INVENTED SCENARIO. The reliability team of an invented regional utility, Northfield Power Cooperative, " +
 			"is about to install a new (invented) string inverter model, the HX-40, across its solar sites. " +
@@ -32,28 +32,28 @@ var (
 		Notes:    "Demo data, all invented. One panel member (Ole Brandt) is deliberately overconfident: compare the widths of the fits. ",
 		Invented: true,
 	}
-	demoQuestions = []elicit.Question{
+	demoQuestions = []workshop.Question{
 		{
 			Wording: "Of the HX-40 inverters installed next spring, what proportion will fail (need a replacement or a main-board repair) " +
 				"within their first 12 months in service? Give the value you think has a 5% chance of not being exceeded, " +
 				"your median, and the value with a 95% chance of not being exceeded.",
 			Quantity: "first-year failure proportion, HX-40", Units: "proportion of units",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 		},
 		{
 			Wording:  "(Invented.) What proportion of the older HX-30 units installed in the (invented) 2023 batch failed within their first year?",
 			Quantity: "first-year failure proportion, HX-30 2023 batch", Units: "proportion of units",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.0413),
 		},
 		{
 			Wording:  "(Invented.) Of last year's inverter field returns at the cooperative, what proportion were traced to a capacitor fault?",
 			Quantity: "share of returns from capacitor faults", Units: "proportion of returns",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.25, 0.5, 0.75},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.25, 0.5, 0.75},
 			Calibration: true, TrueValue: ptr(0.3268),
 		},
 	}
-	demoExperts = []elicit.Expert{
+	demoExperts = []workshop.Expert{
 		{Name: "Ines Varga", Affiliation: "Field service (invented)", Expertise: "Ten years commissioning and repairing string inverters."},
 		{Name: "Tomas Lindqvist", Affiliation: "Reliability engineering (invented)", Expertise: "Accelerated life testing of power electronics."},
 		{Name: "Priya Raman", Affiliation: "Supplier quality (invented)", Expertise: "Audits the inverter maker's production line."},
@@ -113,7 +113,7 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 	if err := st.CreateWorkshop(ctx, &ws); err != nil {
 		return nil, fmt.Errorf("web: demo workshop: %w", err)
 	}
-	qs := make([]elicit.Question, len(demoQuestions))
+	qs := make([]workshop.Question, len(demoQuestions))
 	for i, q := range demoQuestions {
 		q.WorkshopID = ws.ID
 		q.Probs = append([]float64(nil), q.Probs...)
@@ -129,7 +129,7 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 		qs[i] = q
 	}
 	links := make([]DemoLink, len(demoExperts))
-	es := make([]elicit.Expert, len(demoExperts))
+	es := make([]workshop.Expert, len(demoExperts))
 	for i, e := range demoExperts {
 		e.WorkshopID = ws.ID
 		token, hash, err := newToken()
@@ -143,9 +143,9 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 		links[i] = DemoLink{Name: e.Name, Path: expertPath(token)}
 	}
 	for _, a := range demoAnswers {
-		rv := elicit.Revision{
+		rv := workshop.Revision{
 			QuestionID: qs[a.Question].ID, ExpertID: es[a.Expert].ID, Reason: a.Reason,
-			Answer: elicit.Answer{Values: append([]float64(nil), a.Values...)},
+			Answer: workshop.Answer{Values: append([]float64(nil), a.Values...)},
 		}
 		if err := st.SaveRevision(ctx, &rv); err != nil {
 			return nil, fmt.Errorf("web: demo answer: %w", err)

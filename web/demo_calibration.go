@@ -4,7 +4,7 @@ import (
 	"context"
 	"fmt"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // More calibration questions of the invented inverter demo, so that the
@@ -12,23 +12,23 @@ import (
 // and answer is made up. Ole Brandt's narrow ranges miss every true value;
 // the others' ranges mostly hold them.
 var (
-	demoSeeds = []elicit.Question{
+	demoSeeds = []workshop.Question{
 		{
 			Wording:  "(Invented.) At the cooperative's older (invented) sites, what proportion of HX-30 inverters needed a new cooling fan within three years of installation?",
 			Quantity: "three-year fan replacement share, HX-30", Units: "proportion of units",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.1846),
 		},
 		{
 			Wording:  "(Invented.) In the (invented) 2024 site inspections, what proportion of string inverters showed corrosion on their DC connectors?",
 			Quantity: "share of inverters with connector corrosion", Units: "proportion of units",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.0687),
 		},
 		{
 			Wording:  "(Invented.) What proportion of the (invented) 2022 batch of HX-30 units were still running their original firmware two years later?",
 			Quantity: "share still on original firmware", Units: "proportion of units",
-			Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
 			Calibration: true, TrueValue: ptr(0.5521),
 		},
 	}
@@ -44,7 +44,7 @@ var (
 
 // seedDemoCalibration adds the demo's further calibration questions, with
 // their hidden invented true values, and the four experts' answers.
-func seedDemoCalibration(ctx context.Context, st Store, workshopID int64, experts []elicit.Expert) error {
+func seedDemoCalibration(ctx context.Context, st Store, workshopID int64, experts []workshop.Expert) error {
 	if len(experts) != len(demoSeedAnswers) {
 		return fmt.Errorf("web: demo calibration: %d experts, answers for %d", len(experts), len(demoSeedAnswers))
 	}
@@ -56,8 +56,8 @@ func seedDemoCalibration(ctx context.Context, st Store, workshopID int64, expert
 			return fmt.Errorf("web: demo calibration question %d: %w", j+1, err)
 		}
 		for i, e := range experts {
-			rv := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID,
-				Answer: elicit.Answer{Values: append([]float64(nil), demoSeedAnswers[i][j]...)}}
+			rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID,
+				Answer: workshop.Answer{Values: append([]float64(nil), demoSeedAnswers[i][j]...)}}
 			if err := st.SaveRevision(ctx, &rv); err != nil {
 				return fmt.Errorf("web: demo calibration answer: %w", err)
 			}

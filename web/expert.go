@@ -17,6 +17,8 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -97,7 +99,7 @@ type expertQuestionInfo struct {
 	Units    string
 	Lower    string
 	Upper    string
-	Format   elicit.AnswerFormat
+	Format   workshop.AnswerFormat
 	// Revealed is the true value of a calibration question, set only once
 	// the facilitator has revealed it. Until then nothing on an expert's
 	// page says which questions are calibration questions.
@@ -107,7 +109,7 @@ type expertQuestionInfo struct {
 // answerForm is the judgement form in the question's format, with the
 // values as typed and any message beside its field.
 type answerForm struct {
-	Format      elicit.AnswerFormat
+	Format      workshop.AnswerFormat
 	Fields      []formField
 	Reason      string
 	ReasonError string
@@ -213,12 +215,12 @@ func fittedBack(p, fittedP float64) string {
 }
 
 // newAnswerForm lays out the question's form with the typed values.
-func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
-	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: isProportion(q) && q.Format != elicit.FormatChips, Unit: unitProportion}
+func newAnswerForm(q workshop.Question, typed map[string]string) answerForm {
+	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: isProportion(q) && q.Format != workshop.FormatChips, Unit: unitProportion}
 	if typed["unit"] == unitPercent {
 		f.Unit = unitPercent
 	}
-	for i := 0; i+1 < len(q.BinEdges) && q.Format == elicit.FormatChips; i++ {
+	for i := 0; i+1 < len(q.BinEdges) && q.Format == workshop.FormatChips; i++ {
 		f.Bins = append(f.Bins, chipBin{From: chart.FormatValue(q.BinEdges[i]), To: chart.FormatValue(q.BinEdges[i+1])})
 	}
 	add := func(name, label, hint, suffix string) {
@@ -236,12 +238,12 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 		valueSuffix = "%" // typed as percentages
 	}
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		add("lowest", "Lowest plausible value"+units, "", valueSuffix)
 		add("highest", "Highest plausible value"+units, "", valueSuffix)
 		add("best", "Best estimate"+units, "", valueSuffix)
 		add("confidence", "How sure are you that the true value lies between your lowest and highest?", "A percentage, for example 80 for 80% sure.", "%")
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		for i := 0; i+1 < len(q.BinEdges); i++ {
 			add(fmt.Sprintf("counts[%d]", i),
 				fmt.Sprintf("Chips from %s to %s", chart.FormatValue(q.BinEdges[i]), chart.FormatValue(q.BinEdges[i+1])), "", "")
@@ -261,15 +263,15 @@ func newAnswerForm(q elicit.Question, typed map[string]string) answerForm {
 
 // answerValues writes a saved answer back as form values, for
 // pre-filling, as the expert typed it.
-func answerValues(q elicit.Question, a elicit.Answer) map[string]string {
+func answerValues(q workshop.Question, a workshop.Answer) map[string]string {
 	m := map[string]string{}
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		m["lowest"] = formNumber(a.Lowest, a.Percent)
 		m["highest"] = formNumber(a.Highest, a.Percent)
 		m["best"] = formNumber(a.Best, a.Percent)
 		m["confidence"] = formNumber(a.Confidence, true)
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		for i, c := range a.Counts {
 			if c > 0 {
 				m[fmt.Sprintf("counts[%d]", i)] = strconv.Itoa(c)
@@ -288,8 +290,8 @@ func answerValues(q elicit.Question, a elicit.Answer) map[string]string {
 
 // inputMode asks a phone for the keypad a format needs: whole numbers
 // for chips, decimals otherwise.
-func inputMode(f elicit.AnswerFormat) string {
-	if f == elicit.FormatChips {
+func inputMode(f workshop.AnswerFormat) string {
+	if f == workshop.FormatChips {
 		return "numeric"
 	}
 	return "decimal"
@@ -388,10 +390,10 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 // expertScope is what a question's handlers work on: the expert, their
 // workshop, the question, and the expert's own revisions of it.
 type expertScope struct {
-	expert   elicit.Expert
-	workshop elicit.Workshop
-	question elicit.Question
-	own      []elicit.Revision // oldest first; read by readOwn
+	expert   workshop.Expert
+	workshop workshop.Workshop
+	question workshop.Question
+	own      []workshop.Revision // oldest first; read by readOwn
 }
 
 // loadExpertScope finds the question in the expert's own workshop. A
@@ -401,16 +403,16 @@ func (s *Server) loadExpertScope(r *http.Request) (expertScope, error) {
 	sc := expertScope{expert: expertFrom(ctx)}
 	qid, err := strconv.ParseInt(chi.URLParam(r, "qid"), 10, 64)
 	if err != nil || qid <= 0 {
-		return sc, elicit.ErrNotFound
+		return sc, workshop.ErrNotFound
 	}
 	if sc.question, err = s.store.Question(ctx, qid); err != nil {
 		return sc, err
 	}
 	if sc.question.WorkshopID != sc.expert.WorkshopID {
-		return sc, elicit.ErrNotFound
+		return sc, workshop.ErrNotFound
 	}
 	if sc.question.Retired {
-		return sc, elicit.ErrRetired
+		return sc, workshop.ErrRetired
 	}
 	if sc.workshop, err = s.store.Workshop(ctx, sc.expert.WorkshopID); err != nil {
 		return sc, err
@@ -506,7 +508,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	a, fit, ok := readAnswer(sc.question, f)
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.
@@ -548,7 +550,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		again(http.StatusConflict, closed, "", &fit)
 		return
 	}
-	rev := elicit.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
+	rev := workshop.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
 	// The write waits on the disk, not on a CPU: previews go on meanwhile.
 	stepAway(r)
 	err = s.store.SaveRevision(r.Context(), &rev)
@@ -556,7 +558,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		if !stepBack(r) {
 			return
 		}
-		if errors.Is(err, elicit.ErrRoundClosed) {
+		if errors.Is(err, workshop.ErrRoundClosed) {
 			again(http.StatusConflict, closed, "", &fit)
 			return
 		}
@@ -567,7 +569,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			again(http.StatusServiceUnavailable, "", notSavedForExpert, &fit)
 			return
 		}
-		if errors.Is(err, elicit.ErrAnswersFrozen) {
+		if errors.Is(err, workshop.ErrAnswersFrozen) {
 			// The true value was revealed between the page and the save.
 			sc.question.Revealed = true
 			again(http.StatusConflict, frozenMessage, "", &fit)
@@ -620,7 +622,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	for i := len(sc.own) - 1; i >= 0; i-- {
 		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
 	}
-	if n := len(sc.own); n > 0 && sc.own[n-1].EnteredBy == elicit.ByFacilitator {
+	if n := len(sc.own); n > 0 && sc.own[n-1].EnteredBy == workshop.ByFacilitator {
 		cur := sc.own[n-1]
 		v.EnteredNote = "was entered by the facilitator on " + cur.At.UTC().Format(timeLayout) + " " + channelForExpert(cur.Channel)
 	}
@@ -630,10 +632,10 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	return v
 }
 
-func newHistoryRow(q elicit.Question, rv elicit.Revision) historyRow {
+func newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
 		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
-	if rv.EnteredBy == elicit.ByFacilitator {
+	if rv.EnteredBy == workshop.ByFacilitator {
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
 	if fit, err := fits.fit(q, rv); err == nil {
@@ -643,13 +645,13 @@ func newHistoryRow(q elicit.Question, rv elicit.Revision) historyRow {
 }
 
 // answerSummary writes a saved answer on one line.
-func answerSummary(q elicit.Question, a elicit.Answer) string {
+func answerSummary(q workshop.Question, a workshop.Answer) string {
 	var parts []string
 	switch q.Format {
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		parts = append(parts, "lowest "+typedBack(a.Lowest, a.Percent), "highest "+typedBack(a.Highest, a.Percent),
 			"best "+typedBack(a.Best, a.Percent), "sure "+chart.FormatPercent(a.Confidence))
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		for _, c := range a.Counts {
 			parts = append(parts, strconv.Itoa(c))
 		}
@@ -668,7 +670,7 @@ func answerSummary(q elicit.Question, a elicit.Answer) string {
 
 // newPreview turns a fit into the picture and its read-backs; percent
 // says the expert typed percentages, which the read-backs then use.
-func newPreview(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
+func newPreview(q workshop.Question, fit elicit.Fit, percent bool) *previewView {
 	p := &previewView{
 		Params: fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
 		Fit: chart.FitView{
@@ -676,7 +678,7 @@ func newPreview(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
 		},
 	}
-	if q.Format != elicit.FormatChips {
+	if q.Format != workshop.FormatChips {
 		if line := readAsLine(q, fit.Stated); line != "" {
 			p.ReadBacks = append(p.ReadBacks, line)
 		}
@@ -687,7 +689,7 @@ func newPreview(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
 		}
 		pr, x := fit.Probs[i], fit.Stated[i]
 		p.Fit.Points = append(p.Fit.Points, chart.Point{X: x, P: pr})
-		line := readBack(pr, x, q.Units, percent && q.Format != elicit.FormatChips)
+		line := readBack(pr, x, q.Units, percent && q.Format != workshop.FormatChips)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
 		}
@@ -854,7 +856,7 @@ func (s *Server) feedbackFor(r *http.Request, sc expertScope) (*feedback, error)
 // panelThrough returns question q's anonymised panel as round `through`
 // closed (nil when through is 0 or nobody answered by then), remembered
 // per feedbackKey.
-func (s *Server) panelThrough(r *http.Request, ws elicit.Workshop, q elicit.Question, through int) (*feedback, error) {
+func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.Question, through int) (*feedback, error) {
 	if through == 0 {
 		return nil, nil
 	}
@@ -868,21 +870,25 @@ func (s *Server) panelThrough(r *http.Request, ws elicit.Workshop, q elicit.Ques
 		if err != nil {
 			return nil, err
 		}
+		experts, err := s.store.Experts(r.Context(), ws.ID)
+		if err != nil {
+			return nil, err
+		}
 		salt, err := s.store.PanelSalt(r.Context(), ws.ID)
 		if err != nil {
 			return nil, err
 		}
+		// Revoked as the key says, so the feedback is the key's.
 		gone := map[int64]bool{}
 		for _, id := range revoked {
 			gone[id] = true
 		}
-		var kept []elicit.Revision
-		for _, rv := range revs {
-			if !gone[rv.ExpertID] {
-				kept = append(kept, rv)
-			}
+		for i := range experts {
+			experts[i].Revoked = gone[experts[i].ID]
 		}
-		return newFeedback(q, kept, salt), nil
+		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: experts, Revisions: revs,
+			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: fits.fit})
+		return newFeedback(panel, salt), nil
 	})
 	if err != nil {
 		return nil, err
@@ -893,38 +899,37 @@ func (s *Server) panelThrough(r *http.Request, ws elicit.Workshop, q elicit.Ques
 	return fb, nil
 }
 
-// newFeedback fits the revisions (through the fit cache), orders the
-// experts by panelOrder and labels them in that order, keeps the reasons
-// the facilitator has not withheld, and pools the fits with equal
-// weights. Revisions that cannot be fitted are left out.
-func newFeedback(q elicit.Question, revs []elicit.Revision, salt []byte) *feedback {
+// newFeedback orders the panel's active experts with a fit by
+// panelOrder and labels them in that order, keeps the reasons the
+// facilitator has not withheld, and takes the panel's equal-weight pool.
+// Revisions that cannot be fitted are left out.
+func newFeedback(panel workshop.Panel, salt []byte) *feedback {
 	type keyed struct {
 		key string
 		m   feedbackMember
 	}
+	q := panel.Question
 	var ks []keyed
-	var panel []elicit.PanelFit
-	for _, rv := range revs {
-		fit, err := fits.fit(q, rv)
-		if err != nil {
+	for _, pm := range panel.Members {
+		if !pm.Fitted() {
 			continue
 		}
-		m := feedbackMember{expertID: rv.ExpertID, dist: fit.Dist}
+		rv := pm.Revision
+		m := feedbackMember{expertID: pm.Expert.ID, dist: pm.Fit.Dist}
 		if !rv.ReasonWithheld {
 			m.reason, m.reasonRound = strings.TrimSpace(rv.Reason), rv.Round
 		}
-		panel = append(panel, elicit.PanelFit{ExpertID: rv.ExpertID, Dist: &fit.Dist})
-		ks = append(ks, keyed{panelOrder(salt, q.ID, rv.ExpertID), m})
+		ks = append(ks, keyed{panelOrder(salt, q.ID, pm.Expert.ID), m})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
-	fb := &feedback{}
+	fb := &feedback{poolErr: panel.PoolErr}
 	for i, k := range ks {
 		k.m.label = panelLabel(i)
 		fb.members = append(fb.members, k.m)
 	}
-	// The same pooling rule as the facilitator's panel, with equal weights.
-	pp, err := elicit.PoolPanel(panel, elicit.Weights{Scheme: elicit.WeightsEqual})
-	fb.pool, fb.poolErr = pp.Pool, err
+	if panel.Pool != nil {
+		fb.pool = *panel.Pool
+	}
 	return fb
 }
 
@@ -981,7 +986,7 @@ func (s *Server) nextUnanswered(r *http.Request, sc expertScope, v *expertQuesti
 			done[rv.QuestionID] = true
 		}
 	}
-	var after, before []elicit.Question
+	var after, before []workshop.Question
 	for _, q := range qs {
 		if q.Retired || q.Frozen() || done[q.ID] {
 			continue

@@ -18,7 +18,7 @@ import (
 
 	"github.com/chromedp/chromedp"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -30,14 +30,14 @@ type expertRig struct {
 	db      *store.DB
 	srv     *httptest.Server
 	s       *Server
-	ws      elicit.Workshop
-	q       elicit.Question // quantiles at 5/50/95
-	qi      elicit.Question // four-value interval
-	qcal    elicit.Question // calibration, true value hidden
-	qc      elicit.Question // chips in five bins
-	qs      elicit.Question // quantiles on a scale of days, not a proportion
-	tokens  []string        // one per expert
-	experts []elicit.Expert
+	ws      workshop.Workshop
+	q       workshop.Question // quantiles at 5/50/95
+	qi      workshop.Question // four-value interval
+	qcal    workshop.Question // calibration, true value hidden
+	qc      workshop.Question // chips in five bins
+	qs      workshop.Question // quantiles on a scale of days, not a proportion
+	tokens  []string          // one per expert
+	experts []workshop.Expert
 }
 
 const hiddenTruth = 0.4321 // the calibration question's true value; never on an expert's page until revealed
@@ -57,26 +57,26 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 	srv := httptest.NewServer(s.Handler())
 	t.Cleanup(srv.Close)
 	g := &expertRig{t: t, db: db, srv: srv, s: s}
-	g.ws = elicit.Workshop{Title: "Seal wear panel (invented)", Purpose: "A prior for the share of pump seals that fail within a year.",
+	g.ws = workshop.Workshop{Title: "Seal wear panel (invented)", Purpose: "A prior for the share of pump seals that fail within a year.",
 		Decision: "spare-part stock", Notes: "FACILITATOR-ONLY-NOTE", Invented: true}
 	if err := db.CreateWorkshop(ctx, &g.ws); err != nil {
 		t.Fatal(err)
 	}
-	g.q = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of seals fail within their first year?",
+	g.q = workshop.Question{WorkshopID: g.ws.ID, Wording: "What share of seals fail within their first year?",
 		Quantity: "Failure share", Units: "proportion", Lower: 0, Upper: 1,
-		Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
-	g.qi = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of inspected seals show scoring?",
-		Quantity: "Scoring share", Units: "proportion", Lower: 0, Upper: 1, Format: elicit.FormatInterval}
+		Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	g.qi = workshop.Question{WorkshopID: g.ws.ID, Wording: "What share of inspected seals show scoring?",
+		Quantity: "Scoring share", Units: "proportion", Lower: 0, Upper: 1, Format: workshop.FormatInterval}
 	truth := hiddenTruth
-	g.qcal = elicit.Question{WorkshopID: g.ws.ID, Wording: "What share of last year's audited pumps leaked?",
+	g.qcal = workshop.Question{WorkshopID: g.ws.ID, Wording: "What share of last year's audited pumps leaked?",
 		Quantity: "Leak share", Units: "proportion", Lower: 0, Upper: 1,
-		Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
-	g.qc = elicit.Question{WorkshopID: g.ws.ID, Wording: "Place 20 chips on the share of seals replaced early.",
-		Quantity: "Early replacement share", Lower: 0, Upper: 1, Format: elicit.FormatChips,
+		Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true, TrueValue: &truth}
+	g.qc = workshop.Question{WorkshopID: g.ws.ID, Wording: "Place 20 chips on the share of seals replaced early.",
+		Quantity: "Early replacement share", Lower: 0, Upper: 1, Format: workshop.FormatChips,
 		BinEdges: []float64{0, 0.1, 0.2, 0.3, 0.5, 1}, Chips: 20}
-	g.qs = elicit.Question{WorkshopID: g.ws.ID, Wording: "How many days does a seal repair take?",
-		Quantity: "Repair time", Units: "days", Lower: 10, Upper: 50, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
-	for _, q := range []*elicit.Question{&g.q, &g.qi, &g.qcal, &g.qc, &g.qs} {
+	g.qs = workshop.Question{WorkshopID: g.ws.ID, Wording: "How many days does a seal repair take?",
+		Quantity: "Repair time", Units: "days", Lower: 10, Upper: 50, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	for _, q := range []*workshop.Question{&g.q, &g.qi, &g.qcal, &g.qc, &g.qs} {
 		if err := db.AddQuestion(ctx, q); err != nil {
 			t.Fatal(err)
 		}
@@ -89,7 +89,7 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 		if err != nil {
 			t.Fatal(err)
 		}
-		e := elicit.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Affil of " + n}
+		e := workshop.Expert{WorkshopID: g.ws.ID, Name: n, Affiliation: "Affil of " + n}
 		if err := db.AddExpert(ctx, &e, hash); err != nil {
 			t.Fatal(err)
 		}
@@ -99,7 +99,7 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 	return g
 }
 
-func (g *expertRig) qpath(i int, q elicit.Question) string {
+func (g *expertRig) qpath(i int, q workshop.Question) string {
 	return "/e/" + g.tokens[i] + "/q/" + strconv.FormatInt(q.ID, 10)
 }
 
@@ -135,7 +135,7 @@ func (g *expertRig) post(path string, form url.Values) (*http.Response, string) 
 	return resp, string(b)
 }
 
-func (g *expertRig) revisions() []elicit.Revision {
+func (g *expertRig) revisions() []workshop.Revision {
 	g.t.Helper()
 	revs, err := g.db.Revisions(context.Background(), g.ws.ID)
 	if err != nil {
@@ -303,7 +303,7 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 	g := newExpertRig(t)
 	cases := []struct {
 		name  string
-		q     elicit.Question
+		q     workshop.Question
 		form  url.Values
 		id    string // the input whose message we expect
 		rule  string
@@ -488,8 +488,8 @@ func TestSaveAfterRevealIsRefused(t *testing.T) {
 		t.Fatalf("a first answer after the reveal was written")
 	}
 	// The store refuses it too, whoever calls it.
-	rv := elicit.Revision{QuestionID: g.qcal.ID, ExpertID: g.experts[0].ID, Answer: elicit.Answer{Values: []float64{0.3, hiddenTruth, 0.4}}}
-	if err := g.db.SaveRevision(ctx, &rv); !errors.Is(err, elicit.ErrAnswersFrozen) {
+	rv := workshop.Revision{QuestionID: g.qcal.ID, ExpertID: g.experts[0].ID, Answer: workshop.Answer{Values: []float64{0.3, hiddenTruth, 0.4}}}
+	if err := g.db.SaveRevision(ctx, &rv); !errors.Is(err, workshop.ErrAnswersFrozen) {
 		t.Fatalf("store save after the reveal: %v, want ErrAnswersFrozen", err)
 	}
 }

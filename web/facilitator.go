@@ -6,7 +6,8 @@ import (
 
 	"github.com/go-chi/chi/v5"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // facilitatorRoutes are the facilitator's pages; routes() mounts them
@@ -42,7 +43,7 @@ import (
 //	POST /w/{workshop}/q/{question}/weights  scheme=equal|custom, weights[ID], reason
 //	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
 //	GET  /w/{workshop}/report                printable record
-//	GET  /w/{workshop}/export.json|.csv      downloads (elicit.BuildRecord), also per question under /q/{question}/
+//	GET  /w/{workshop}/export.json|.csv      downloads (record.Build), also per question under /q/{question}/
 //	GET  /w/{workshop}/priors.csv            the agreed priors, one row per question
 //	     /w/{workshop}/calibration...        calibration.go
 func (s *Server) facilitatorRoutes(r chi.Router) {
@@ -92,16 +93,16 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 // workshopListView is the start page: every workshop and the form to
 // create one.
 type workshopListView struct {
-	Workshops []elicit.Workshop
-	Deleted   []elicit.DeletedWorkshop
+	Workshops []workshop.Workshop
+	Deleted   []workshop.DeletedWorkshop
 	Form      *Form
 }
 
-func (v workshopListView) active() []elicit.Workshop   { return v.filter(false) }
-func (v workshopListView) archived() []elicit.Workshop { return v.filter(true) }
+func (v workshopListView) active() []workshop.Workshop   { return v.filter(false) }
+func (v workshopListView) archived() []workshop.Workshop { return v.filter(true) }
 
-func (v workshopListView) filter(archived bool) []elicit.Workshop {
-	var out []elicit.Workshop
+func (v workshopListView) filter(archived bool) []workshop.Workshop {
+	var out []workshop.Workshop
 	for _, w := range v.Workshops {
 		if w.Archived == archived {
 			out = append(out, w)
@@ -136,11 +137,11 @@ func (s *Server) createWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	ws := elicit.Workshop{
-		Title:    f.Text("title", MaxShortText, true),
-		Purpose:  f.Text("purpose", MaxLongText, false),
-		Decision: f.Text("decision", MaxLongText, false),
-		Notes:    f.Text("notes", MaxLongText, false),
+	ws := workshop.Workshop{
+		Title:    f.Text("title", input.MaxShortText, true),
+		Purpose:  f.Text("purpose", input.MaxLongText, false),
+		Decision: f.Text("decision", input.MaxLongText, false),
+		Notes:    f.Text("notes", input.MaxLongText, false),
 	}
 	if !f.OK() {
 		s.showWorkshopList(w, r, http.StatusUnprocessableEntity, f)

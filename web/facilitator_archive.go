@@ -6,7 +6,8 @@ import (
 
 	"github.com/go-chi/chi/v5"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // archiveWorkshop archives a workshop (its round closes; nothing can be
@@ -18,7 +19,7 @@ func (s *Server) archiveWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "archive", "restore")
-	reason := f.Text("archive_reason", MaxLongText, true)
+	reason := f.Text("archive_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetArchived(r.Context(), ws.ID, action == "archive", reason); err != nil {
 			switch {
@@ -40,7 +41,7 @@ func (s *Server) archiveWorkshop(w http.ResponseWriter, r *http.Request) {
 
 // deleteView is the page that confirms deleting a workshop.
 type deleteView struct {
-	Workshop  elicit.Workshop
+	Workshop  workshop.Workshop
 	Questions int
 	Experts   int
 	Answers   int
@@ -56,7 +57,7 @@ func (s *Server) deleteWorkshopForm(w http.ResponseWriter, r *http.Request) {
 	s.showDelete(w, r, http.StatusOK, ws, newForm(nil))
 }
 
-func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, f *Form) {
+func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, ws workshop.Workshop, f *Form) {
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
@@ -68,14 +69,14 @@ func (s *Server) showDelete(w http.ResponseWriter, r *http.Request, status int, 
 
 // deleteWorkshop deletes a workshop that has no answers and no agreed
 // priors, once the facilitator has ticked the confirmation and given a
-// reason; the store refuses any other (elicit.RuleHasAnswers).
+// reason; the store refuses any other (workshop.RuleHasAnswers).
 func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	if !f.Checked("confirm") {
 		f.set("confirm", "tick to confirm that the workshop, its questions and its panel are to be deleted")
 	}

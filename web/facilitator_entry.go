@@ -6,6 +6,8 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The facilitator enters or revises an expert's judgement on their
@@ -27,11 +29,11 @@ type onBehalf struct {
 // entryView is the facilitator's page for entering one question's
 // judgement for one expert.
 type entryView struct {
-	Workshop elicit.Workshop
-	Question elicit.Question
-	Expert   elicit.Expert
+	Workshop workshop.Workshop
+	Question workshop.Question
+	Expert   workshop.Expert
 	Form     expertQuestionView
-	History  []elicit.Revision // the expert's revisions of the question, newest first
+	History  []workshop.Revision // the expert's revisions of the question, newest first
 	Saved    bool
 	Back     string // the question's panel
 }
@@ -42,9 +44,9 @@ func entryPath(ws, q, e int64) string {
 
 // entryScope is what the entry handlers work on.
 type entryScope struct {
-	ws elicit.Workshop
-	q  elicit.Question
-	e  elicit.Expert
+	ws workshop.Workshop
+	q  workshop.Question
+	e  workshop.Expert
 }
 
 func (s *Server) loadEntry(w http.ResponseWriter, r *http.Request) (entryScope, bool) {
@@ -99,14 +101,14 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent)
 		}
 	}
-	v := s.entryView(sc, own, typed, "", string(elicit.ChannelInPerson))
+	v := s.entryView(sc, own, typed, "", string(workshop.ChannelInPerson))
 	v.Form.Preview = preview
 	v.Saved = r.URL.Query().Get("saved") == "1"
 	s.renderEntry(w, r, http.StatusOK, v)
 }
 
 // entryView lays out the page around the form with the typed values.
-func (s *Server) entryView(sc entryScope, own []elicit.Revision, typed map[string]string, reason, channel string) entryView {
+func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[string]string, reason, channel string) entryView {
 	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
 	fv := expertQuestionView{
 		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked,
@@ -134,12 +136,12 @@ func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int,
 }
 
 // readEntry parses the form as the expert's page does, and the channel.
-func readEntry(q elicit.Question, f *Form) (elicit.Answer, elicit.Fit, elicit.Channel, bool) {
-	names := make([]string, len(elicit.Channels))
-	for i, c := range elicit.Channels {
+func readEntry(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, workshop.Channel, bool) {
+	names := make([]string, len(workshop.Channels))
+	for i, c := range workshop.Channels {
 		names[i] = string(c)
 	}
-	channel := elicit.Channel(f.Choice("channel", "", names...))
+	channel := workshop.Channel(f.Choice("channel", "", names...))
 	a, fit, ok := readAnswer(q, f)
 	return a, fit, channel, ok && f.OK()
 }
@@ -192,7 +194,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	a, fit, channel, ok := readEntry(sc.q, f)
 	if sc.q.Frozen() {
 		s.entryAgain(w, r, sc, f, http.StatusConflict, "The true value of this question has been shown, so its answers are final and nothing was saved.", nil)
@@ -202,18 +204,18 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		s.entryAgain(w, r, sc, f, http.StatusUnprocessableEntity, "", &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)})
 		return
 	}
-	rev := elicit.Revision{QuestionID: sc.q.ID, ExpertID: sc.e.ID, Reason: reason, Answer: a,
-		EnteredBy: elicit.ByFacilitator, Channel: channel}
+	rev := workshop.Revision{QuestionID: sc.q.ID, ExpertID: sc.e.ID, Reason: reason, Answer: a,
+		EnteredBy: workshop.ByFacilitator, Channel: channel}
 	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
 		var notice string
 		switch {
-		case errors.Is(err, elicit.ErrRoundClosed):
+		case errors.Is(err, workshop.ErrRoundClosed):
 			notice = "Round " + strconv.Itoa(sc.ws.Round) + " is closed, so nothing was saved. The values are kept below."
-		case errors.Is(err, elicit.ErrAnswersFrozen):
+		case errors.Is(err, workshop.ErrAnswersFrozen):
 			notice = "The true value of this question has been shown, so its answers are final and nothing was saved."
-		case errors.Is(err, elicit.ErrRetired):
+		case errors.Is(err, workshop.ErrRetired):
 			notice = "This question is retired, so it takes no answers; nothing was saved."
-		case errors.Is(err, elicit.ErrRevoked):
+		case errors.Is(err, workshop.ErrRevoked):
 			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
 		case s.notSaved(r, f, err):
 			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit, a.Percent))
@@ -228,7 +230,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)+"?saved=1", http.StatusSeeOther)
 }
 
-func newPreviewPtr(q elicit.Question, fit elicit.Fit, percent bool) *previewView {
+func newPreviewPtr(q workshop.Question, fit elicit.Fit, percent bool) *previewView {
 	if len(fit.Probs) == 0 {
 		return nil
 	}
@@ -239,14 +241,14 @@ func newPreviewPtr(q elicit.Question, fit elicit.Fit, percent bool) *previewView
 // with their current answer and who entered it, and the way to enter or
 // revise it on their behalf.
 type expertView struct {
-	Workshop elicit.Workshop
-	Expert   elicit.Expert
+	Workshop workshop.Workshop
+	Expert   workshop.Expert
 	Rows     []expertViewRow
 }
 
 type expertViewRow struct {
-	Question elicit.Question
-	Current  *elicit.Revision
+	Question workshop.Question
+	Current  *workshop.Revision
 	Enter    string
 }
 

@@ -12,7 +12,7 @@ import templruntime "github.com/a-h/templ/runtime"
 import (
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // entryPageView is the facilitator's page for entering one expert's
@@ -531,7 +531,7 @@ func enterForSection(v panelView) templ.Component {
 }
 
 // expertDot keeps elicit imported for the generated code's sake.
-var _ = elicit.ByExpert
+var _ = workshop.ByExpert
 
 // expertViewPage is one expert's answers for the facilitator, with the
 // way to enter each on their behalf.

@@ -9,7 +9,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The facilitator enters a judgement for an expert with the expert's own
@@ -53,7 +54,7 @@ func TestFacilitatorEntersForAnExpert(t *testing.T) {
 		t.Fatalf("%d revisions saved", len(after)-len(before))
 	}
 	rv := after[len(after)-1]
-	if rv.EnteredBy != elicit.ByFacilitator || rv.Channel != elicit.ChannelPaperForm || rv.ExpertID != priya.ID || rv.Answer.Values[1] != 0.03 {
+	if rv.EnteredBy != workshop.ByFacilitator || rv.Channel != workshop.ChannelPaperForm || rv.ExpertID != priya.ID || rv.Answer.Values[1] != 0.03 {
 		t.Fatalf("saved revision %+v", rv)
 	}
 	// The expert's own page says who entered it and from what.
@@ -66,12 +67,12 @@ func TestFacilitatorEntersForAnExpert(t *testing.T) {
 		t.Error("the panel's history does not show who entered the revision")
 	}
 	_, raw := h.get(workshopPath(ws.ID) + "/export.json")
-	var rec elicit.Record
+	var rec record.Record
 	if err := json.Unmarshal([]byte(raw), &rec); err != nil {
 		t.Fatal(err)
 	}
 	last := rec.Revisions[len(rec.Revisions)-1]
-	if last.EnteredBy != elicit.ByFacilitator || last.Channel != elicit.ChannelPaperForm || rec.Revisions[0].EnteredBy != elicit.ByExpert {
+	if last.EnteredBy != workshop.ByFacilitator || last.Channel != workshop.ChannelPaperForm || rec.Revisions[0].EnteredBy != workshop.ByExpert {
 		t.Errorf("export provenance: first %q, last %q %q", rec.Revisions[0].EnteredBy, last.EnteredBy, last.Channel)
 	}
 	_, csv := h.get(workshopPath(ws.ID) + "/export.csv")

@@ -3,41 +3,41 @@ package web
 import (
 	"bytes"
 	"context"
-	"encoding/json"
 	"fmt"
 	"net/http"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // recordSourcer is implemented by stores that read a workshop's whole
 // state in one consistent transaction (store.DB does).
 type recordSourcer interface {
-	Source(ctx context.Context, workshopID int64) (elicit.RecordSource, error)
+	Source(ctx context.Context, workshopID int64) (workshop.Snapshot, error)
 }
 
-// record builds the export record of ws with elicit.BuildRecord: every
+// record builds the export record of ws with record.Build: every
 // fit and pool recomputed from the stored judgements.
-func (s *Server) record(ctx context.Context, ws elicit.Workshop) (elicit.Record, error) {
-	var src elicit.RecordSource
+func (s *Server) record(ctx context.Context, ws workshop.Workshop) (record.Record, error) {
+	var src workshop.Snapshot
 	if rs, ok := s.store.(recordSourcer); ok {
 		var err error
 		if src, err = rs.Source(ctx, ws.ID); err != nil {
-			return elicit.Record{}, err
+			return record.Record{}, err
 		}
 	} else {
 		d, err := s.readWorkshopData(ctx, ws)
 		if err != nil {
-			return elicit.Record{}, err
+			return record.Record{}, err
 		}
 		evs, err := s.store.Events(ctx, ws.ID)
 		if err != nil {
-			return elicit.Record{}, err
+			return record.Record{}, err
 		}
-		src = elicit.RecordSource{Workshop: ws, Questions: d.Questions, Experts: d.Experts,
+		src = workshop.Snapshot{Workshop: ws, Questions: d.Questions, Experts: d.Experts,
 			Revisions: d.Revisions, Weights: d.Weights, Priors: d.Priors, Events: evs}
 	}
-	return elicit.BuildRecord(src, s.now())
+	return record.Build(src, s.now())
 }
 
 // exportRecord downloads the workshop's record, or one question's, as
@@ -68,7 +68,7 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 				// The JSON keeps the calibration answers behind
 				// performance weights; the CSV lists this question's
 				// revisions only.
-				var own []elicit.RecordRevision
+				var own []record.Revision
 				for _, rv := range rec.Revisions {
 					if rv.QuestionID == q.ID {
 						own = append(own, rv)
@@ -89,9 +89,7 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 			name += "-priors"
 			err = rec.WritePriorsCSV(&buf)
 		default:
-			enc := json.NewEncoder(&buf)
-			enc.SetIndent("", "  ")
-			err = enc.Encode(rec)
+			err = rec.WriteJSON(&buf)
 		}
 		if err != nil {
 			s.fail(w, r, err)

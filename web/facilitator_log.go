@@ -7,13 +7,14 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // logView is the workshop's decision log: every facilitator decision with
 // its time and reason, oldest first, each written as a sentence. The raw
 // JSON of each decision travels only in the export.
 type logView struct {
-	Workshop elicit.Workshop
+	Workshop workshop.Workshop
 	Rows     []logRow
 }
 
@@ -47,8 +48,8 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 
 // newLogView writes each event as a row of the log, naming experts and
 // questions instead of their ids.
-func newLogView(ws elicit.Workshop, evs []elicit.Event, qs []elicit.Question, es []elicit.Expert) logView {
-	w := eventWriter{questions: map[int64]elicit.Question{}, experts: es, revealed: map[int64]bool{}}
+func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert) logView {
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}}
 	for _, q := range qs {
 		w.questions[q.ID] = q
 	}
@@ -66,30 +67,30 @@ func newLogView(ws elicit.Workshop, evs []elicit.Event, qs []elicit.Question, es
 }
 
 // eventLabels are the log's plain words for each kind of decision.
-var eventLabels = map[elicit.EventKind]string{
-	elicit.EventWorkshopCreated:  "Workshop created",
-	elicit.EventRoundClosed:      "Round closed",
-	elicit.EventRoundOpened:      "Round opened",
-	elicit.EventWeightsSet:       "Pool weights set",
-	elicit.EventPriorAgreed:      "Prior agreed",
-	elicit.EventTruthRevealed:    "True value revealed",
-	elicit.EventExpertAdded:      "Expert added",
-	elicit.EventExpertRevoked:    "Expert's access revoked",
-	elicit.EventTokenReissued:    "Expert's link re-issued",
-	elicit.EventQuestionAdded:    "Question added",
-	elicit.EventQuestionEdited:   "Question corrected",
-	elicit.EventQuestionRetired:  "Question retired",
-	elicit.EventQuestionRestored: "Question brought back",
-	elicit.EventRoundReopened:    "Round reopened",
-	elicit.EventWorkshopArchived: "Workshop archived",
-	elicit.EventWorkshopRestored: "Workshop brought back",
-	elicit.EventReasonWithheld:   "Reason withheld from the feedback",
-	elicit.EventReasonReleased:   "Reason shown again in the feedback",
-	elicit.EventWorkshopEdited:   "Workshop details changed",
-	elicit.EventTruthEntered:     "True value entered (hidden)",
+var eventLabels = map[workshop.EventKind]string{
+	workshop.EventWorkshopCreated:  "Workshop created",
+	workshop.EventRoundClosed:      "Round closed",
+	workshop.EventRoundOpened:      "Round opened",
+	workshop.EventWeightsSet:       "Pool weights set",
+	workshop.EventPriorAgreed:      "Prior agreed",
+	workshop.EventTruthRevealed:    "True value revealed",
+	workshop.EventExpertAdded:      "Expert added",
+	workshop.EventExpertRevoked:    "Expert's access revoked",
+	workshop.EventTokenReissued:    "Expert's link re-issued",
+	workshop.EventQuestionAdded:    "Question added",
+	workshop.EventQuestionEdited:   "Question corrected",
+	workshop.EventQuestionRetired:  "Question retired",
+	workshop.EventQuestionRestored: "Question brought back",
+	workshop.EventRoundReopened:    "Round reopened",
+	workshop.EventWorkshopArchived: "Workshop archived",
+	workshop.EventWorkshopRestored: "Workshop brought back",
+	workshop.EventReasonWithheld:   "Reason withheld from the feedback",
+	workshop.EventReasonReleased:   "Reason shown again in the feedback",
+	workshop.EventWorkshopEdited:   "Workshop details changed",
+	workshop.EventTruthEntered:     "True value entered (hidden)",
 }
 
-func eventLabel(k elicit.EventKind) string {
+func eventLabel(k workshop.EventKind) string {
 	if l, ok := eventLabels[k]; ok {
 		return l
 	}
@@ -99,14 +100,14 @@ func eventLabel(k elicit.EventKind) string {
 // eventDetail is the union of what the store writes into Event.Detail
 // for each kind of decision.
 type eventDetail struct {
-	Round     int                 `json:"round"`
-	ExpertID  int64               `json:"expert_id"`
-	Scheme    elicit.WeightScheme `json:"scheme"`
-	ByExpert  map[string]float64  `json:"by_expert"`
-	Source    elicit.PriorSource  `json:"source"`
-	Dist      *elicit.ScaledBeta  `json:"dist"`
-	TrueValue *float64            `json:"true_value"`
-	RoundOpen bool                `json:"while_round_open"`
+	Round     int                   `json:"round"`
+	ExpertID  int64                 `json:"expert_id"`
+	Scheme    workshop.WeightScheme `json:"scheme"`
+	ByExpert  map[string]float64    `json:"by_expert"`
+	Source    workshop.PriorSource  `json:"source"`
+	Dist      *elicit.ScaledBeta    `json:"dist"`
+	TrueValue *float64              `json:"true_value"`
+	RoundOpen bool                  `json:"while_round_open"`
 	// A correction's changed fields, before and after.
 	Fields []string                   `json:"fields"`
 	Before map[string]json.RawMessage `json:"before"`
@@ -119,14 +120,14 @@ type eventDetail struct {
 // true values were already revealed, so that a later reveal reads as a
 // change.
 type eventWriter struct {
-	questions map[int64]elicit.Question
-	experts   []elicit.Expert
+	questions map[int64]workshop.Question
+	experts   []workshop.Expert
 	revealed  map[int64]bool
 }
 
 // appliesTo is the question an event concerns, or the expert for the
 // roster's events, else the whole workshop.
-func (w eventWriter) appliesTo(e elicit.Event) string {
+func (w eventWriter) appliesTo(e workshop.Event) string {
 	var d eventDetail
 	if e.QuestionID == 0 && e.Detail != "" && json.Unmarshal([]byte(e.Detail), &d) == nil && d.ExpertID != 0 {
 		return w.expert(d.ExpertID)
@@ -148,35 +149,35 @@ func (w eventWriter) expert(id int64) string { return expertName(w.experts, id) 
 
 // sentence is the event's detail in words; "—" when there is nothing to
 // add to its label, or its detail cannot be read.
-func (w eventWriter) sentence(e elicit.Event) string {
+func (w eventWriter) sentence(e workshop.Event) string {
 	var d eventDetail
 	if e.Detail != "" && json.Unmarshal([]byte(e.Detail), &d) != nil {
 		return "—"
 	}
 	switch e.Kind {
-	case elicit.EventWorkshopCreated:
+	case workshop.EventWorkshopCreated:
 		return "Round 1 opened with the workshop."
-	case elicit.EventRoundClosed:
+	case workshop.EventRoundClosed:
 		if d.Round > 0 {
 			return "Round " + strconv.Itoa(d.Round) + " closed: experts can no longer save."
 		}
-	case elicit.EventRoundOpened:
+	case workshop.EventRoundOpened:
 		if d.Round > 0 {
 			return "Round " + strconv.Itoa(d.Round) + " opened: experts see the panel without names and may revise."
 		}
-	case elicit.EventExpertAdded:
+	case workshop.EventExpertAdded:
 		if d.ExpertID != 0 {
 			return w.expert(d.ExpertID) + " joined the panel and was given a private link."
 		}
-	case elicit.EventExpertRevoked:
+	case workshop.EventExpertRevoked:
 		if d.ExpertID != 0 {
 			return w.expert(d.ExpertID) + "'s private link stopped working."
 		}
-	case elicit.EventTokenReissued:
+	case workshop.EventTokenReissued:
 		if d.ExpertID != 0 {
 			return w.expert(d.ExpertID) + " was given a new private link; the old one stopped working."
 		}
-	case elicit.EventQuestionAdded:
+	case workshop.EventQuestionAdded:
 		if q, ok := w.questions[e.QuestionID]; ok {
 			kind := "Target question"
 			if q.Calibration {
@@ -184,9 +185,9 @@ func (w eventWriter) sentence(e elicit.Event) string {
 			}
 			return kind + ", asked as " + formatLabel(q) + "."
 		}
-	case elicit.EventWeightsSet:
+	case workshop.EventWeightsSet:
 		return w.weights(d)
-	case elicit.EventPriorAgreed:
+	case workshop.EventPriorAgreed:
 		if d.Dist != nil {
 			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
 			if d.RoundOpen {
@@ -194,27 +195,27 @@ func (w eventWriter) sentence(e elicit.Event) string {
 			}
 			return s
 		}
-	case elicit.EventQuestionEdited, elicit.EventWorkshopEdited:
+	case workshop.EventQuestionEdited, workshop.EventWorkshopEdited:
 		return correction(d)
-	case elicit.EventTruthEntered:
+	case workshop.EventTruthEntered:
 		return "Entered or changed, and kept hidden from the experts until it is revealed."
-	case elicit.EventQuestionRetired:
+	case workshop.EventQuestionRetired:
 		return "Hidden from experts and left out of the scores; kept in the record."
-	case elicit.EventQuestionRestored:
+	case workshop.EventQuestionRestored:
 		return "Shown to the experts again."
-	case elicit.EventRoundReopened:
+	case workshop.EventRoundReopened:
 		if d.Round > 0 {
 			return "Round " + strconv.Itoa(d.Round) + " opened again after it was closed: experts can save again."
 		}
-	case elicit.EventWorkshopArchived:
+	case workshop.EventWorkshopArchived:
 		return "Marked finished; nothing can be changed until it is brought back."
-	case elicit.EventWorkshopRestored:
+	case workshop.EventWorkshopRestored:
 		return "Can be changed again; the round stays closed until the next opens."
-	case elicit.EventReasonWithheld:
+	case workshop.EventReasonWithheld:
 		return "One expert's reason on this question is kept from the other experts' feedback and the room view; it stays in the record."
-	case elicit.EventReasonReleased:
+	case workshop.EventReasonReleased:
 		return "A withheld reason is shown in the feedback again."
-	case elicit.EventTruthRevealed:
+	case workshop.EventTruthRevealed:
 		if d.TrueValue != nil {
 			verb := "True value " + fv(*d.TrueValue) + " shown to the experts."
 			if w.revealed[e.QuestionID] {
@@ -231,9 +232,9 @@ func (w eventWriter) sentence(e elicit.Event) string {
 // roster's order.
 func (w eventWriter) weights(d eventDetail) string {
 	switch d.Scheme {
-	case elicit.WeightsEqual:
+	case workshop.WeightsEqual:
 		return "Equal weights for every active expert."
-	case elicit.WeightsCustom, elicit.WeightsPerformance:
+	case workshop.WeightsCustom, workshop.WeightsPerformance:
 	default:
 		return "—"
 	}
@@ -265,7 +266,7 @@ func (w eventWriter) weights(d eventDetail) string {
 		parts[i] = w.expert(id) + " " + strconv.FormatFloat(shares[i], 'f', 2, 64)
 	}
 	scheme := "Weights set by the facilitator"
-	if d.Scheme == elicit.WeightsPerformance {
+	if d.Scheme == workshop.WeightsPerformance {
 		scheme = "Performance weights from the calibration questions"
 	}
 	return scheme + ", as shares of the pool: " + strings.Join(parts, ", ") + "."

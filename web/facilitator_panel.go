@@ -9,39 +9,41 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
 // expertFitRow is one expert's current judgement on a question and what
 // elicit fitted to it.
 type expertFitRow struct {
-	Expert   elicit.Expert
-	Revision *elicit.Revision // latest; nil when the expert has not answered
-	Saves    int              // revisions on this question, all rounds
+	Expert   workshop.Expert
+	Revision *workshop.Revision // latest; nil when the expert has not answered
+	Saves    int                // revisions on this question, all rounds
 	Fit      *elicit.Fit
 	FitError string  // why the saved answer could not be fitted
 	Weight   float64 // as set, unnormalised (Weights.Of)
-	Share    float64 // normalised weight in the pool (elicit.PoolPanel)
+	Share    float64 // normalised weight in the pool (workshop.PanelState)
 	Pooled   bool
 }
 
 // questionState is everything the panel and the report show for one
 // question, computed by elicit from the stored judgements.
 type questionState struct {
-	Question  elicit.Question
+	Question  workshop.Question
 	Rows      []expertFitRow
-	Weights   elicit.Weights
+	Weights   workshop.Weights
 	Pool      *elicit.Pool
 	PoolQs    []elicit.PoolQuantile // the pool's 5%, 50% and 95% points
 	PoolError string
 	Rep       *elicit.Representation // the pool's single-Beta representation
 	RepError  string
-	Agreed    []elicit.AgreedPrior // oldest first; the last is current
-	History   []elicit.Revision    // this question's revisions, oldest first
+	Agreed    []workshop.AgreedPrior // oldest first; the last is current
+	History   []workshop.Revision    // this question's revisions, oldest first
 }
 
 // current is the agreed prior in force, or nil.
-func (st questionState) current() *elicit.AgreedPrior {
+func (st questionState) current() *workshop.AgreedPrior {
 	if len(st.Agreed) == 0 {
 		return nil
 	}
@@ -51,15 +53,15 @@ func (st questionState) current() *elicit.AgreedPrior {
 // workshopData is the stored state of a workshop that question states
 // are built from; read once per page.
 type workshopData struct {
-	Workshop  elicit.Workshop
-	Questions []elicit.Question
-	Experts   []elicit.Expert
-	Revisions []elicit.Revision
-	Weights   elicit.Weights
-	Priors    []elicit.AgreedPrior
+	Workshop  workshop.Workshop
+	Questions []workshop.Question
+	Experts   []workshop.Expert
+	Revisions []workshop.Revision
+	Weights   workshop.Weights
+	Priors    []workshop.AgreedPrior
 }
 
-func (s *Server) readWorkshopData(ctx context.Context, ws elicit.Workshop) (workshopData, error) {
+func (s *Server) readWorkshopData(ctx context.Context, ws workshop.Workshop) (workshopData, error) {
 	d := workshopData{Workshop: ws}
 	var err error
 	if d.Questions, err = s.store.Questions(ctx, ws.ID); err != nil {
@@ -80,12 +82,12 @@ func (s *Server) readWorkshopData(ctx context.Context, ws elicit.Workshop) (work
 	return d, nil
 }
 
-// state builds question q's state: each expert's latest revision fitted
-// with Question.Fit, the linear opinion pool of the active experts' fits
-// under the workshop's weights (elicit.LinearPool), and its best single
-// Beta (Pool.BestBeta). Revoked experts stay in the table but not in the
-// pool.
-func (d workshopData) state(q elicit.Question) questionState {
+// state builds question q's state from its panel state
+// (workshop.PanelState: each expert's latest revision fitted through the
+// fit cache, the linear opinion pool of the active experts' fits under the
+// workshop's weights, and its single Beta) and the question's history and
+// agreed priors. Revoked experts stay in the table but not in the pool.
+func (d workshopData) state(q workshop.Question) questionState {
 	st := questionState{Question: q, Weights: d.Weights}
 	for _, rv := range d.Revisions {
 		if rv.QuestionID == q.ID {
@@ -97,60 +99,32 @@ func (d workshopData) state(q elicit.Question) questionState {
 			st.Agreed = append(st.Agreed, p)
 		}
 	}
-	var panel []elicit.PanelFit
-	for _, e := range d.Experts {
-		row := expertFitRow{Expert: e}
-		for i := range st.History {
-			if st.History[i].ExpertID == e.ID {
-				row.Revision = &st.History[i]
-				row.Saves++
-			}
+	panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History,
+		Weights: d.Weights, Fit: fits.fit})
+	for _, m := range panel.Members {
+		row := expertFitRow{Expert: m.Expert, Revision: m.Revision, Saves: m.Saves, Fit: m.Fit,
+			Pooled: m.Pooled, Weight: m.Weight, Share: m.Share}
+		if m.FitErr != nil {
+			row.FitError = m.FitErr.Error()
 		}
-		m := elicit.PanelFit{ExpertID: e.ID, Revoked: e.Revoked}
-		if row.Revision != nil {
-			fit, err := fits.fit(q, *row.Revision)
-			if err != nil {
-				row.FitError = err.Error()
-			} else {
-				row.Fit = &fit
-				m.Dist = &fit.Dist
-			}
-		}
-		panel = append(panel, m)
 		st.Rows = append(st.Rows, row)
 	}
-	pp, err := elicit.PoolPanel(panel, d.Weights)
-	switch {
-	case errors.Is(err, elicit.ErrNoFits):
+	switch err := panel.PoolErr; {
+	case errors.Is(err, workshop.ErrNoFits):
 		st.PoolError = "No expert has a fitted judgement on this question yet."
+		return st
+	case errors.Is(err, workshop.ErrPoolPoints):
+		st.PoolError = "The pool's quantiles cannot be computed: " + strings.TrimPrefix(err.Error(), workshop.ErrPoolPoints.Error()+": ")
 		return st
 	case err != nil:
 		st.PoolError = "The pool cannot be formed: " + err.Error()
 		return st
 	}
-	for i, id := range pp.Experts {
-		for k := range st.Rows {
-			if st.Rows[k].Expert.ID == id {
-				st.Rows[k].Pooled = true
-				st.Rows[k].Weight = d.Weights.Of(id)
-				st.Rows[k].Share = pp.Weights[i]
-			}
-		}
-	}
-	pool := pp.Pool
-	st.Pool = &pool
-	qs, err := pool.QuantileSet([]float64{0.05, 0.5, 0.95})
-	if err != nil {
-		st.PoolError = "The pool's quantiles cannot be computed: " + err.Error()
-		st.Pool = nil
-		return st
-	}
-	st.PoolQs = qs
-	rep, err := pool.BestBeta()
-	if err != nil {
-		st.RepError = "No single Beta could be fitted to the pool: " + err.Error()
+	st.Pool, st.PoolQs = panel.Pool, panel.Points
+	if panel.Single == nil {
+		st.RepError = "No single Beta could be fitted to the pool: " + panel.SingleErr.Error()
 	} else {
-		st.Rep = &rep
+		st.Rep = panel.Single
 	}
 	return st
 }
@@ -178,8 +152,8 @@ func (st questionState) chartView() chart.PanelView {
 
 // panelView is the per-question page for the facilitator.
 type panelView struct {
-	Workshop    elicit.Workshop
-	Experts     []elicit.Expert
+	Workshop    workshop.Workshop
+	Experts     []workshop.Expert
 	State       questionState
 	Chart       chart.PanelView
 	WeightsForm *Form
@@ -192,8 +166,8 @@ type panelView struct {
 }
 
 // reasoned are the question's revisions that carry a reason, oldest first.
-func (st questionState) reasoned() []elicit.Revision {
-	var out []elicit.Revision
+func (st questionState) reasoned() []workshop.Revision {
+	var out []workshop.Revision
 	for _, rv := range st.History {
 		if strings.TrimSpace(rv.Reason) != "" {
 			out = append(out, rv)
@@ -204,18 +178,18 @@ func (st questionState) reasoned() []elicit.Revision {
 
 // loadQuestion reads the {question} of workshop ws, answering 404 when it
 // belongs to another workshop.
-func (s *Server) loadQuestion(w http.ResponseWriter, r *http.Request, ws elicit.Workshop) (elicit.Question, bool) {
+func (s *Server) loadQuestion(w http.ResponseWriter, r *http.Request, ws workshop.Workshop) (workshop.Question, bool) {
 	id, ok := s.pathID(w, r, "question")
 	if !ok {
-		return elicit.Question{}, false
+		return workshop.Question{}, false
 	}
 	q, err := s.store.Question(r.Context(), id)
 	if err == nil && q.WorkshopID != ws.ID {
-		err = elicit.ErrNotFound
+		err = workshop.ErrNotFound
 	}
 	if err != nil {
 		s.fail(w, r, err)
-		return elicit.Question{}, false
+		return workshop.Question{}, false
 	}
 	return q, true
 }
@@ -240,7 +214,7 @@ type panelForms struct {
 }
 
 // showPanelWith renders the panel with forms to show again.
-func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, q elicit.Question, forms panelForms) {
+func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status int, ws workshop.Workshop, q workshop.Question, forms panelForms) {
 	wf, af := forms.weights, forms.agree
 	d, err := s.readWorkshopData(r.Context(), ws)
 	if err != nil {
@@ -256,7 +230,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	}
 	if af == nil {
 		af = newForm(nil)
-		af.Values.Set("source", string(elicit.PriorFromPool))
+		af.Values.Set("source", string(workshop.PriorFromPool))
 	}
 	cf := newAnswerForm(q, formValues(af))
 	applyErrors(&cf, af)
@@ -305,7 +279,7 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "withhold", "release")
-	why := f.Text("withhold_reason", MaxLongText, true)
+	why := f.Text("withhold_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetReasonWithheld(r.Context(), revID, action == "withhold", why); err != nil {
 			switch {

@@ -5,7 +5,8 @@ import (
 	"net/http"
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // agreePrior records the prior the panel agreed for a question: either the
@@ -25,11 +26,11 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	source := elicit.PriorSource(f.Choice("source", "", string(elicit.PriorFromPool), string(elicit.PriorFromConsensus)))
-	rationale := f.Text("rationale", MaxLongText, true)
-	p := elicit.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
+	source := workshop.PriorSource(f.Choice("source", "", string(workshop.PriorFromPool), string(workshop.PriorFromConsensus)))
+	rationale := f.Text("rationale", input.MaxLongText, true)
+	p := workshop.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
 	switch source {
-	case elicit.PriorFromPool:
+	case workshop.PriorFromPool:
 		d, err := s.readWorkshopData(r.Context(), ws)
 		if err != nil {
 			s.fail(w, r, err)
@@ -44,7 +45,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		default:
 			f.set("source", st.RepError)
 		}
-	case elicit.PriorFromConsensus:
+	case workshop.PriorFromConsensus:
 		a, fit, ok := readAnswer(q, f)
 		if ok {
 			p.Dist, p.Consensus = fit.Dist, &a
@@ -58,7 +59,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if err := s.store.AgreePrior(r.Context(), &p); err != nil {
-		if errors.Is(err, elicit.ErrRoundStillOpen) {
+		if errors.Is(err, workshop.ErrRoundStillOpen) {
 			// The round was opened between the page and the post.
 			f.set("confirm_open", openRoundWarning(ws))
 			s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
@@ -76,7 +77,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 
 // openRoundWarning asks the facilitator to confirm a prior agreed while
 // experts can still change their answers.
-func openRoundWarning(ws elicit.Workshop) string {
+func openRoundWarning(ws workshop.Workshop) string {
 	return "Round " + strconv.Itoa(ws.Round) + " is still open, so experts can still change their answers after this prior is recorded. " +
 		"Close the round first, or tick the box to record the prior now; the record will say it was agreed while the round was open."
 }

@@ -7,6 +7,8 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // probPresets are the sets of cumulative probabilities a quantile
@@ -15,16 +17,16 @@ var probPresets = []struct {
 	Key, Label string
 	Probs      []float64
 }{
-	{"p05_50_95", "5th, 50th and 95th percentiles", elicit.ProbsDefault},
-	{"quartiles", "quartiles and median (25th, 50th, 75th)", elicit.ProbsQuartiles},
-	{"tertiles", "tertiles and median (33⅓th, 50th, 66⅔th)", elicit.ProbsTertiles},
+	{"p05_50_95", "5th, 50th and 95th percentiles", workshop.ProbsDefault},
+	{"quartiles", "quartiles and median (25th, 50th, 75th)", workshop.ProbsQuartiles},
+	{"tertiles", "tertiles and median (33⅓th, 50th, 66⅔th)", workshop.ProbsTertiles},
 	{"custom", "custom probabilities", nil},
 }
 
 // questionForm is the add-question page, or with Edit the page that
 // corrects a question.
 type questionForm struct {
-	Workshop elicit.Workshop
+	Workshop workshop.Workshop
 	Form     *Form
 	Edit     *questionEdit
 }
@@ -32,7 +34,7 @@ type questionForm struct {
 // questionEdit is the question being corrected and how many answers it
 // has: with any, only its wording, quantity and units may change.
 type questionEdit struct {
-	Question elicit.Question
+	Question workshop.Question
 	Answers  int
 }
 
@@ -62,8 +64,8 @@ func (s *Server) newQuestionForm(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(map[string][]string{
-		"lower": {"0"}, "upper": {"1"}, "format": {string(elicit.FormatQuantiles)},
-		"preset": {"p05_50_95"}, "chips": {strconv.Itoa(elicit.DefaultChips)},
+		"lower": {"0"}, "upper": {"1"}, "format": {string(workshop.FormatQuantiles)},
+		"preset": {"p05_50_95"}, "chips": {strconv.Itoa(workshop.DefaultChips)},
 	})
 	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Add a question", "overview"),
 		questionFormPage(questionForm{Workshop: ws, Form: f}))
@@ -102,18 +104,18 @@ func (s *Server) addQuestion(w http.ResponseWriter, r *http.Request) {
 
 // parseQuestion reads the form's fields; only the chosen format's fields
 // are read.
-func parseQuestion(f *Form) elicit.Question {
-	q := elicit.Question{
-		Wording:  f.Text("wording", MaxLongText, true),
-		Quantity: f.Text("quantity", MaxShortText, true),
-		Units:    f.Text("units", MaxShortText, false),
+func parseQuestion(f *Form) workshop.Question {
+	q := workshop.Question{
+		Wording:  f.Text("wording", input.MaxLongText, true),
+		Quantity: f.Text("quantity", input.MaxShortText, true),
+		Units:    f.Text("units", input.MaxShortText, false),
 		Lower:    f.Float("lower"),
 		Upper:    f.Float("upper"),
-		Format: elicit.AnswerFormat(f.Choice("format", string(elicit.FormatQuantiles),
-			string(elicit.FormatQuantiles), string(elicit.FormatInterval), string(elicit.FormatChips))),
+		Format: workshop.AnswerFormat(f.Choice("format", string(workshop.FormatQuantiles),
+			string(workshop.FormatQuantiles), string(workshop.FormatInterval), string(workshop.FormatChips))),
 	}
 	switch q.Format {
-	case elicit.FormatQuantiles:
+	case workshop.FormatQuantiles:
 		keys := make([]string, len(probPresets))
 		for i, p := range probPresets {
 			keys[i] = p.Key
@@ -127,16 +129,16 @@ func parseQuestion(f *Form) elicit.Question {
 		if preset == "custom" {
 			q.Probs = f.FloatList("custom_probs")
 		}
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		if strings.TrimSpace(f.Value("bin_edges")) == "" {
 			// Parley's default: equal bins across the question's bounds.
 			if f.Error("lower") == "" && f.Error("upper") == "" && q.Lower < q.Upper {
-				q.BinEdges = elicit.DefaultBinEdges(q.Lower, q.Upper)
+				q.BinEdges = workshop.DefaultBinEdges(q.Lower, q.Upper)
 			}
 		} else {
 			q.BinEdges = f.FloatList("bin_edges")
 		}
-		q.Chips = f.Int("chips", 1, 1000)
+		q.Chips = f.Int("chips", 1, workshop.MaxChips)
 	}
 	if f.Checked("calibration") {
 		q.Calibration = true
@@ -150,7 +152,7 @@ func parseQuestion(f *Form) elicit.Question {
 }
 
 // questionValues writes q as the question form's values, for correcting it.
-func questionValues(q elicit.Question) map[string][]string {
+func questionValues(q workshop.Question) map[string][]string {
 	m := map[string][]string{
 		"wording": {q.Wording}, "quantity": {q.Quantity}, "units": {q.Units},
 		"lower": {fv(q.Lower)}, "upper": {fv(q.Upper)}, "format": {string(q.Format)},
@@ -162,7 +164,7 @@ func questionValues(q elicit.Question) map[string][]string {
 			m["preset"], m["custom_probs"] = []string{p.Key}, []string{""}
 		}
 	}
-	if q.Format != elicit.FormatChips {
+	if q.Format != workshop.FormatChips {
 		m["bin_edges"], m["chips"] = []string{""}, []string{""}
 	}
 	if q.Calibration {
@@ -183,7 +185,7 @@ func joinFloats(xs []float64) string {
 }
 
 // loadEdit reads the question to correct and its number of answers.
-func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (elicit.Workshop, *questionEdit, bool) {
+func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (workshop.Workshop, *questionEdit, bool) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
 		return ws, nil, false
@@ -219,17 +221,17 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	var next elicit.Question
+	var next workshop.Question
 	if ed.Answers > 0 {
 		next = ed.Question
-		next.Wording = f.Text("wording", MaxLongText, true)
-		next.Quantity = f.Text("quantity", MaxShortText, true)
-		next.Units = f.Text("units", MaxShortText, false)
+		next.Wording = f.Text("wording", input.MaxLongText, true)
+		next.Quantity = f.Text("quantity", input.MaxShortText, true)
+		next.Units = f.Text("units", input.MaxShortText, false)
 	} else {
 		next = parseQuestion(f)
 	}
 	next.ID, next.WorkshopID = ed.Question.ID, ws.ID
-	reason := f.Text("reason", MaxLongText, true)
+	reason := f.Text("reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.EditQuestion(r.Context(), next, reason); err != nil {
 			switch {
@@ -263,7 +265,7 @@ func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "retire", "restore")
-	reason := f.Text("retire_reason", MaxLongText, true)
+	reason := f.Text("retire_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.SetQuestionRetired(r.Context(), q.ID, action == "retire", reason); err != nil {
 			switch {

@@ -12,7 +12,7 @@ import templruntime "github.com/a-h/templ/runtime"
 import (
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 func questionFormPage(v questionForm) templ.Component {
@@ -202,7 +202,7 @@ func questionFormPage(v questionForm) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = radio(v.Form, "format", string(elicit.FormatQuantiles), "Quantiles at chosen probabilities").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = radio(v.Form, "format", string(workshop.FormatQuantiles), "Quantiles at chosen probabilities").Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -268,11 +268,11 @@ func questionFormPage(v questionForm) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = radio(v.Form, "format", string(elicit.FormatInterval), "Four-value interval: lowest, highest, best estimate and confidence that the truth lies between lowest and highest").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = radio(v.Form, "format", string(workshop.FormatInterval), "Four-value interval: lowest, highest, best estimate and confidence that the truth lies between lowest and highest").Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = radio(v.Form, "format", string(elicit.FormatChips), "Chips in bins").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = radio(v.Form, "format", string(workshop.FormatChips), "Chips in bins").Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -5,14 +5,16 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
 // reportView is the printable record of a workshop, drawn from the same
-// elicit.Record the JSON and CSV exports carry.
+// record.Record the JSON and CSV exports carry.
 type reportView struct {
-	Record  elicit.Record
-	Experts map[int64]elicit.Expert
+	Record  record.Record
+	Experts map[int64]workshop.Expert
 	Charts  map[int64]chart.PanelView
 }
 
@@ -26,7 +28,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	v := reportView{Record: rec, Experts: map[int64]elicit.Expert{}, Charts: map[int64]chart.PanelView{}}
+	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]chart.PanelView{}}
 	for _, e := range rec.Experts {
 		v.Experts[e.ID] = e
 	}
@@ -41,7 +43,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 // reportChart overlays a question's pooled experts' current fits, their
 // linear pool (elicit.LinearPool with the record's normalised weights) and
 // the agreed prior.
-func reportChart(q elicit.RecordQuestion, experts map[int64]elicit.Expert) chart.PanelView {
+func reportChart(q record.Question, experts map[int64]workshop.Expert) chart.PanelView {
 	v := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	fits := map[int64]elicit.ScaledBeta{}
 	for _, cf := range q.CurrentFits {

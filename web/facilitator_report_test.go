@@ -8,12 +8,12 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
 )
 
 // The record opens with every target question's agreed prior in one
 // table, before anything else, with the very numbers the JSON export
-// carries (elicit.RecordPrior); a target question without one says so, and
+// carries (record.Prior); a target question without one says so, and
 // calibration questions are not listed.
 func TestReportOpensWithTheAgreedPriors(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
@@ -29,7 +29,7 @@ func TestReportOpensWithTheAgreedPriors(t *testing.T) {
 	}
 	summary := report[start:end]
 	_, body := h.get(workshopPath(ws.ID) + "/export.json")
-	rec, err := elicit.ParseRecord(strings.NewReader(body))
+	rec, err := record.Parse(strings.NewReader(body))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -81,7 +81,7 @@ func TestPriorsCSVDownload(t *testing.T) {
 		t.Fatalf("priors.csv rows %q", rows)
 	}
 	_, js := h.get(workshopPath(ws.ID) + "/export.json")
-	rec, err := elicit.ParseRecord(strings.NewReader(js))
+	rec, err := record.Parse(strings.NewReader(js))
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,7 +6,8 @@ import (
 	"strings"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // issuedLink's entry in Server.issued: a private link just issued, kept
@@ -41,11 +42,11 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	e := elicit.Expert{
+	e := workshop.Expert{
 		WorkshopID:  ws.ID,
-		Name:        f.Text("name", MaxShortText, true),
-		Affiliation: f.Text("affiliation", MaxShortText, false),
-		Expertise:   f.Text("expertise", MaxLongText, false),
+		Name:        f.Text("name", input.MaxShortText, true),
+		Affiliation: f.Text("affiliation", input.MaxShortText, false),
+		Expertise:   f.Text("expertise", input.MaxLongText, false),
 	}
 	if f.OK() && !f.Checked("allow_duplicate") {
 		others, err := s.store.Experts(r.Context(), ws.ID)
@@ -87,7 +88,7 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 
 // redirectToLink keeps the new link and sends the facilitator to the page
 // that shows it.
-func (s *Server) redirectToLink(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, e elicit.Expert, token string) {
+func (s *Server) redirectToLink(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, e workshop.Expert, token string) {
 	key, err := s.issued.keep(issuedEntry{ws.ID, e.ID, s.absLink(r, expertPath(token))}, s.now())
 	if err != nil {
 		s.fail(w, r, err)
@@ -118,26 +119,26 @@ func (s *Server) issuedLinkPage(w http.ResponseWriter, r *http.Request) {
 
 // loadExpert reads the {expert} of the workshop ws, answering 404 when the
 // expert is not on that workshop's panel.
-func (s *Server) loadExpert(w http.ResponseWriter, r *http.Request, ws elicit.Workshop) (elicit.Expert, bool) {
+func (s *Server) loadExpert(w http.ResponseWriter, r *http.Request, ws workshop.Workshop) (workshop.Expert, bool) {
 	id, ok := s.pathID(w, r, "expert")
 	if !ok {
-		return elicit.Expert{}, false
+		return workshop.Expert{}, false
 	}
 	e, err := s.store.Expert(r.Context(), id)
 	if err == nil && e.WorkshopID != ws.ID {
-		err = elicit.ErrNotFound
+		err = workshop.ErrNotFound
 	}
 	if err != nil {
 		s.fail(w, r, err)
-		return elicit.Expert{}, false
+		return workshop.Expert{}, false
 	}
 	return e, true
 }
 
 // revokeView is the page that asks the facilitator to confirm a revoke.
 type revokeView struct {
-	Workshop elicit.Workshop
-	Expert   elicit.Expert
+	Workshop workshop.Workshop
+	Expert   workshop.Expert
 	Answers  int
 	Form     *Form
 }
@@ -155,7 +156,7 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	if !f.OK() || f.Value("confirm") != "yes" {
 		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
 		if err != nil {
@@ -193,7 +194,7 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", MaxLongText, false)
+	reason := f.Text("reason", input.MaxLongText, false)
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RosterForm: f})
 		return

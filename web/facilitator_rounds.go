@@ -3,7 +3,8 @@ package web
 import (
 	"net/http"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // changeRound closes the open round, opens the next one, or reopens the
@@ -22,7 +23,7 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	opening := action == "open"
-	reason := f.Text("reason", MaxLongText, opening)
+	reason := f.Text("reason", input.MaxLongText, opening)
 	round := ws.Round
 	if opening {
 		round = ws.Round + 1
@@ -45,8 +46,8 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)
 }
 
-func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws elicit.Workshop, f *Form) {
-	reason := f.Text("reopen_reason", MaxLongText, true)
+func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, f *Form) {
+	reason := f.Text("reopen_reason", input.MaxLongText, true)
 	if f.OK() {
 		f.Fail(ws.CheckReopen(), map[string]string{"action": "reopen_reason"})
 	}

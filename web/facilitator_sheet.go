@@ -7,7 +7,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // Importing an answer sheet on the facilitator's pages: upload (or
@@ -27,16 +27,16 @@ const sheetFor = 30 * time.Minute
 type keptSheet struct {
 	workshop int64
 	text     string
-	channel  elicit.Channel
+	channel  workshop.Channel
 }
 
 // sheetView is the upload page: the form, or the preview of a sheet.
 type sheetView struct {
-	Workshop elicit.Workshop
+	Workshop workshop.Workshop
 	Form     *Form
 	Rows     []SheetRow
 	Key      string
-	Channel  elicit.Channel
+	Channel  workshop.Channel
 }
 
 func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
@@ -47,7 +47,7 @@ func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(nil)
-	f.Values.Set("channel", string(elicit.ChannelFile))
+	f.Values.Set("channel", string(workshop.ChannelFile))
 	s.renderSheet(w, r, http.StatusOK, sheetView{Workshop: ws, Form: f})
 }
 
@@ -107,7 +107,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	channel := elicit.Channel(f.Choice("channel", string(elicit.ChannelFile), channelNames()...))
+	channel := workshop.Channel(f.Choice("channel", string(workshop.ChannelFile), channelNames()...))
 	v := sheetView{Workshop: ws, Form: f, Channel: channel}
 	if strings.TrimSpace(text) == "" && f.OK() {
 		f.set("file", "choose a CSV file, or paste the sheet below")
@@ -137,7 +137,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
 // when the round is closed.
-func (s *Server) checkSheet(r *http.Request, ws elicit.Workshop, text string) ([]SheetRow, error) {
+func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]SheetRow, error) {
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
 		return nil, err
@@ -189,8 +189,8 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 }
 
 func channelNames() []string {
-	out := make([]string, len(elicit.Channels))
-	for i, c := range elicit.Channels {
+	out := make([]string, len(workshop.Channels))
+	for i, c := range workshop.Channels {
 		out[i] = string(c)
 	}
 	return out

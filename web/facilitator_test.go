@@ -9,10 +9,13 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // seeded is a harness signed in over a database holding the invented demo.
-func seeded(t testing.TB) (*harness, elicit.Workshop, []elicit.Question, []elicit.Expert, []DemoLink) {
+func seeded(t testing.TB) (*harness, workshop.Workshop, []workshop.Question, []workshop.Expert, []DemoLink) {
 	t.Helper()
 	h := newHarness(t)
 	h.signIn()
@@ -50,7 +53,7 @@ func TestSeedDemo(t *testing.T) {
 	if len(revs) == 0 {
 		t.Fatal("demo has no answers")
 	}
-	byID := map[int64]elicit.Question{}
+	byID := map[int64]workshop.Question{}
 	for _, q := range qs {
 		byID[q.ID] = q
 	}
@@ -133,7 +136,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		}
 		return v
 	}
-	long := strings.Repeat("x", MaxShortText+1)
+	long := strings.Repeat("x", input.MaxShortText+1)
 	tests := []struct {
 		name  string
 		path  string
@@ -226,14 +229,14 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		}
 	}
 	all, _ := h.db.Questions(ctx, ws.ID)
-	got := map[string]elicit.Question{}
+	got := map[string]workshop.Question{}
 	for _, q := range all {
 		got[q.Quantity] = q
 	}
 	if q := got["q custom"]; fmt.Sprint(q.Probs) != "[0.1 0.5 0.9]" {
 		t.Errorf("custom probs stored as %v", q.Probs)
 	}
-	if q := got["q tertiles"]; fmt.Sprint(q.Probs) != fmt.Sprint(elicit.ProbsTertiles) {
+	if q := got["q tertiles"]; fmt.Sprint(q.Probs) != fmt.Sprint(workshop.ProbsTertiles) {
 		t.Errorf("tertiles stored as %v", q.Probs)
 	}
 	if q := got["q chips"]; q.Chips != 20 || len(q.BinEdges) != 5 || !q.Calibration || q.TrueValue == nil || *q.TrueValue != 0.12 {
@@ -249,7 +252,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		t.Fatalf("set weights: %d %s", res.StatusCode, body)
 	}
 	w, _ := h.db.Weights(ctx, ws.ID)
-	if w.Scheme != elicit.WeightsCustom || w.ByExpert[es[0].ID] != 2 || w.Reason == "" {
+	if w.Scheme != workshop.WeightsCustom || w.ByExpert[es[0].ID] != 2 || w.Reason == "" {
 		t.Fatalf("weights stored as %+v", w)
 	}
 	_, body := h.get(qp)
@@ -269,7 +272,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 	var dists []elicit.ScaledBeta
 	var weights []float64
 	for _, e := range es {
-		var latest *elicit.Revision
+		var latest *workshop.Revision
 		for i := range d.Revisions {
 			if d.Revisions[i].ExpertID == e.ID && d.Revisions[i].QuestionID == qs[0].ID {
 				latest = &d.Revisions[i]
@@ -294,7 +297,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		t.Fatal(err)
 	}
 	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
-	if len(ps) != 1 || ps[0].Source != elicit.PriorFromPool || ps[0].Dist != rep.Dist {
+	if len(ps) != 1 || ps[0].Source != workshop.PriorFromPool || ps[0].Dist != rep.Dist {
 		t.Fatalf("agreed %+v, want %+v", ps, rep.Dist)
 	}
 	_, body = h.get(qp)
@@ -309,12 +312,12 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		"values[0]": {"0.015"}, "values[1]": {"0.045"}, "values[2]": {"0.11"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree consensus: %d %s", res.StatusCode, body)
 	}
-	want, err := qs[0].Fit(elicit.Answer{Values: []float64{0.015, 0.045, 0.11}})
+	want, err := qs[0].Fit(workshop.Answer{Values: []float64{0.015, 0.045, 0.11}})
 	if err != nil {
 		t.Fatal(err)
 	}
 	ps, _ = h.db.AgreedPriors(ctx, ws.ID)
-	if len(ps) != 2 || ps[1].Source != elicit.PriorFromConsensus || ps[1].Dist != want.Dist || ps[1].Consensus == nil {
+	if len(ps) != 2 || ps[1].Source != workshop.PriorFromConsensus || ps[1].Dist != want.Dist || ps[1].Consensus == nil {
 		t.Fatalf("consensus agreed %+v, want %+v", ps[len(ps)-1], want.Dist)
 	}
 
@@ -373,7 +376,7 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	if res, _ := h.get(expertPath(token)); res.StatusCode != http.StatusOK {
 		t.Fatalf("an unconfirmed revoke ended the link: %d", res.StatusCode)
 	}
-	if evs, _ := h.db.Events(context.Background(), ws.ID); evs[len(evs)-1].Kind == elicit.EventExpertRevoked {
+	if evs, _ := h.db.Events(context.Background(), ws.ID); evs[len(evs)-1].Kind == workshop.EventExpertRevoked {
 		t.Fatal("an unconfirmed revoke was recorded")
 	}
 	if res, _ := h.post(expertActionPath(ws.ID, e.ID, "revoke"), url.Values{"reason": {"left the panel"}, "confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
@@ -437,7 +440,7 @@ func TestReportAndExports(t *testing.T) {
 		!strings.Contains(res.Header.Get("Content-Disposition"), "attachment") {
 		t.Fatalf("export.json: %d %v", res.StatusCode, res.Header)
 	}
-	rec, err := elicit.ParseRecord(strings.NewReader(body))
+	rec, err := record.Parse(strings.NewReader(body))
 	if err != nil {
 		t.Fatalf("exported JSON does not parse as a record: %v", err)
 	}
@@ -566,14 +569,14 @@ func TestReportHistoryShowsWhatWasStated(t *testing.T) {
 		}
 	}
 	all, _ := h.db.Questions(ctx, ws.ID)
-	byName := map[string]elicit.Question{}
+	byName := map[string]workshop.Question{}
 	for _, q := range all {
 		byName[q.Quantity] = q
 	}
-	for _, rv := range []elicit.Revision{
-		{QuestionID: byName["q interval"].ID, ExpertID: es[0].ID, Answer: elicit.Answer{Lowest: 0.02, Highest: 0.2, Best: 0.06, Confidence: 0.9}},
-		{QuestionID: byName["q chips"].ID, ExpertID: es[1].ID, Answer: elicit.Answer{Counts: []int{5, 10, 5, 0}}},
-		{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "Heard of a recall (invented).", Answer: elicit.Answer{Values: []float64{0.02, 0.05, 0.15}}},
+	for _, rv := range []workshop.Revision{
+		{QuestionID: byName["q interval"].ID, ExpertID: es[0].ID, Answer: workshop.Answer{Lowest: 0.02, Highest: 0.2, Best: 0.06, Confidence: 0.9}},
+		{QuestionID: byName["q chips"].ID, ExpertID: es[1].ID, Answer: workshop.Answer{Counts: []int{5, 10, 5, 0}}},
+		{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "Heard of a recall (invented).", Answer: workshop.Answer{Values: []float64{0.02, 0.05, 0.15}}},
 	} {
 		if err := h.db.SaveRevision(ctx, &rv); err != nil {
 			t.Fatal(err)
@@ -629,8 +632,8 @@ func TestOverviewCarriesEarlierAnswers(t *testing.T) {
 			t.Fatalf("round %v: %d", f, res.StatusCode)
 		}
 	}
-	rv := elicit.Revision{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "After discussion (invented).",
-		Answer: elicit.Answer{Values: []float64{0.015, 0.045, 0.11}}}
+	rv := workshop.Revision{QuestionID: qs[0].ID, ExpertID: es[0].ID, Reason: "After discussion (invented).",
+		Answer: workshop.Answer{Values: []float64{0.015, 0.045, 0.11}}}
 	if err := h.db.SaveRevision(context.Background(), &rv); err != nil || rv.Round != 2 {
 		t.Fatalf("revise in round 2: %v, round %d", err, rv.Round)
 	}

@@ -5,6 +5,8 @@ import (
 	"net/http"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // setWeights records the pool weights the facilitator chose, with the
@@ -21,10 +23,10 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	scheme := elicit.WeightScheme(f.Choice("scheme", "", string(elicit.WeightsEqual), string(elicit.WeightsCustom)))
-	reason := f.Text("reason", MaxLongText, true)
-	wt := elicit.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
-	if scheme == elicit.WeightsCustom {
+	scheme := workshop.WeightScheme(f.Choice("scheme", "", string(workshop.WeightsEqual), string(workshop.WeightsCustom)))
+	reason := f.Text("reason", input.MaxLongText, true)
+	wt := workshop.Weights{WorkshopID: ws.ID, Scheme: scheme, Reason: reason}
+	if scheme == workshop.WeightsCustom {
 		experts, err := s.store.Experts(r.Context(), ws.ID)
 		if err != nil {
 			s.fail(w, r, err)

@@ -8,7 +8,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // TestHugeWeightsShowTheirShares: four custom weights of 1e308 each are
@@ -27,7 +28,7 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	var q elicit.Question
+	var q workshop.Question
 	for _, cand := range qs {
 		who := map[int64]bool{}
 		for _, rv := range revs {
@@ -73,7 +74,7 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 	}
 
 	_, body := h.get(workshopPath(ws.ID) + "/export.json")
-	var rec elicit.Record
+	var rec record.Record
 	if err := json.Unmarshal([]byte(body), &rec); err != nil {
 		t.Fatal(err)
 	}

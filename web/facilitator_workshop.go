@@ -3,16 +3,17 @@ package web
 import (
 	"net/http"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // workshopView is the facilitator's overview of one workshop: its
 // questions, its panel, who has answered what in the current round, and
 // the round controls.
 type workshopView struct {
-	Workshop  elicit.Workshop
-	Questions []elicit.Question
-	Experts   []elicit.Expert
+	Workshop  workshop.Workshop
+	Questions []workshop.Question
+	Experts   []workshop.Expert
 	// Answers[expertID][questionID] is the state of the expert's current
 	// judgement on the question; absent when they have never answered it.
 	Answers     map[int64]map[int64]answerState
@@ -35,13 +36,13 @@ type workshopView struct {
 // Gone is set when the link can no longer be shown (issuedFor passed, or
 // the server restarted).
 type issuedLink struct {
-	Expert elicit.Expert
+	Expert workshop.Expert
 	URL    string
 	Gone   bool
 }
 
 // meta is the page shell for a facilitator page of workshop ws.
-func facilitatorMeta(ws elicit.Workshop, title, section string) PageMeta {
+func facilitatorMeta(ws workshop.Workshop, title, section string) PageMeta {
 	return PageMeta{
 		Title: title, Facilitator: true, WorkshopID: ws.ID, WorkshopTitle: ws.Title,
 		Section: section, Invented: ws.Invented,
@@ -50,15 +51,15 @@ func facilitatorMeta(ws elicit.Workshop, title, section string) PageMeta {
 
 // loadWorkshop reads the workshop named by the {workshop} path parameter,
 // answering 404 itself when there is none.
-func (s *Server) loadWorkshop(w http.ResponseWriter, r *http.Request) (elicit.Workshop, bool) {
+func (s *Server) loadWorkshop(w http.ResponseWriter, r *http.Request) (workshop.Workshop, bool) {
 	id, ok := s.pathID(w, r, "workshop")
 	if !ok {
-		return elicit.Workshop{}, false
+		return workshop.Workshop{}, false
 	}
 	ws, err := s.store.Workshop(r.Context(), id)
 	if err != nil {
 		s.fail(w, r, err)
-		return elicit.Workshop{}, false
+		return workshop.Workshop{}, false
 	}
 	return ws, true
 }
@@ -72,7 +73,7 @@ func (s *Server) workshopOverview(w http.ResponseWriter, r *http.Request) {
 }
 
 // showOverview fills v from the store and renders the overview.
-func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int, ws elicit.Workshop, v workshopView) {
+func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int, ws workshop.Workshop, v workshopView) {
 	ctx := r.Context()
 	qs, err := s.store.Questions(ctx, ws.ID)
 	if err != nil {
@@ -131,7 +132,7 @@ type answerState struct {
 
 // answerStates reads revisions (oldest first) into each expert's answer
 // state per question, as of round.
-func answerStates(round int, revs []elicit.Revision) map[int64]map[int64]answerState {
+func answerStates(round int, revs []workshop.Revision) map[int64]map[int64]answerState {
 	m := map[int64]map[int64]answerState{}
 	for _, rv := range revs {
 		if m[rv.ExpertID] == nil {
@@ -168,10 +169,10 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	upd := ws
-	upd.Title = f.Text("title", MaxShortText, true)
-	upd.Purpose = f.Text("purpose", MaxLongText, false)
-	upd.Decision = f.Text("decision", MaxLongText, false)
-	upd.Notes = f.Text("notes", MaxLongText, false)
+	upd.Title = f.Text("title", input.MaxShortText, true)
+	upd.Purpose = f.Text("purpose", input.MaxLongText, false)
+	upd.Decision = f.Text("decision", input.MaxLongText, false)
+	upd.Notes = f.Text("notes", input.MaxLongText, false)
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{EditForm: f})
 		return
@@ -188,8 +189,8 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 }
 
 // activeQuestions are the questions not retired, which experts see.
-func (v workshopView) activeQuestions() []elicit.Question {
-	var out []elicit.Question
+func (v workshopView) activeQuestions() []workshop.Question {
+	var out []workshop.Question
 	for _, q := range v.Questions {
 		if !q.Retired {
 			out = append(out, q)

@@ -12,16 +12,16 @@ import templruntime "github.com/a-h/templ/runtime"
 import (
 	"strconv"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-func formatLabel(q elicit.Question) string {
+func formatLabel(q workshop.Question) string {
 	switch q.Format {
-	case elicit.FormatQuantiles:
+	case workshop.FormatQuantiles:
 		return "quantiles at " + probsLabel(q.Probs)
-	case elicit.FormatInterval:
+	case workshop.FormatInterval:
 		return "four-value interval"
-	case elicit.FormatChips:
+	case workshop.FormatChips:
 		return strconv.Itoa(q.Chips) + " chips in " + strconv.Itoa(max(len(q.BinEdges)-1, 0)) + " bins"
 	}
 	return string(q.Format)
@@ -1528,7 +1528,7 @@ func rosterSection(v workshopView) templ.Component {
 // rosterActions is one form per expert with one reason box, recorded in
 // the decision log with whichever action is pressed: revoking (the form's
 // action, so its button comes first) or issuing a new private link.
-func rosterActions(ws int64, e elicit.Expert) templ.Component {
+func rosterActions(ws int64, e workshop.Expert) templ.Component {
 	return templruntime.GeneratedTemplate(func(templ_7745c5c3_Input templruntime.GeneratedComponentInput) (templ_7745c5c3_Err error) {
 		templ_7745c5c3_W, ctx := templ_7745c5c3_Input.Writer, templ_7745c5c3_Input.Context
 		if templ_7745c5c3_CtxErr := ctx.Err(); templ_7745c5c3_CtxErr != nil {

@@ -6,6 +6,7 @@ import (
 	"sync"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // A saved revision never changes (revisions are append-only) and a
@@ -52,7 +53,7 @@ func newFitCache(size int) *fitCache {
 // fit returns q.Fit(rv.Answer), computed at most once per key while it
 // stays in the cache. The returned Fit's slices are shared between
 // callers and must not be modified.
-func (c *fitCache) fit(q elicit.Question, rv elicit.Revision) (elicit.Fit, error) {
+func (c *fitCache) fit(q workshop.Question, rv workshop.Revision) (elicit.Fit, error) {
 	key := fitKey(q, rv)
 	c.mu.Lock()
 	if r, ok := c.cur[key]; ok {
@@ -92,7 +93,7 @@ func (c *fitCache) len() int {
 }
 
 // fitKey writes the revision id and every input of Question.Fit as bytes.
-func fitKey(q elicit.Question, rv elicit.Revision) string {
+func fitKey(q workshop.Question, rv workshop.Revision) string {
 	b := make([]byte, 0, 16*8+8*(len(q.Probs)+len(q.BinEdges)+len(rv.Answer.Values)+len(rv.Answer.Counts)))
 	u := func(v uint64) { b = binary.LittleEndian.AppendUint64(b, v) }
 	f := func(v float64) { u(math.Float64bits(v)) }

@@ -15,18 +15,18 @@ import (
 	"sync"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
-func cacheQuestion() elicit.Question {
-	return elicit.Question{ID: 7, Wording: "Share of invented pumps that leak?", Quantity: "leak share", Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+func cacheQuestion() workshop.Question {
+	return workshop.Question{ID: 7, Wording: "Share of invented pumps that leak?", Quantity: "leak share", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
 }
 
-func cacheRevision(id int64, median float64) elicit.Revision {
-	return elicit.Revision{ID: id, QuestionID: 7, ExpertID: 1,
-		Answer: elicit.Answer{Values: []float64{median - 0.15, median, median + 0.15}}}
+func cacheRevision(id int64, median float64) workshop.Revision {
+	return workshop.Revision{ID: id, QuestionID: 7, ExpertID: 1,
+		Answer: workshop.Answer{Values: []float64{median - 0.15, median, median + 0.15}}}
 }
 
 func TestFitCacheHitIsTheSameFit(t *testing.T) {
@@ -56,12 +56,12 @@ func TestFitCacheNeverStale(t *testing.T) {
 	first, _ := c.fit(q, cacheRevision(1, 0.3))
 	for _, tt := range []struct {
 		name string
-		q    elicit.Question
-		rv   elicit.Revision
+		q    workshop.Question
+		rv   workshop.Revision
 	}{
 		{"new revision", q, cacheRevision(2, 0.6)},
 		{"same id, other answer", q, cacheRevision(1, 0.6)},
-		{"same id and answer, other bounds", func() elicit.Question { q := q; q.Upper = 2; return q }(), cacheRevision(1, 0.3)},
+		{"same id and answer, other bounds", func() workshop.Question { q := q; q.Upper = 2; return q }(), cacheRevision(1, 0.3)},
 	} {
 		got, err := c.fit(tt.q, tt.rv)
 		want, werr := tt.q.Fit(tt.rv.Answer)
@@ -81,7 +81,7 @@ func TestFitCacheNeverStale(t *testing.T) {
 func TestFitCacheKeepsErrors(t *testing.T) {
 	c := newFitCache(16)
 	q := cacheQuestion()
-	bad := elicit.Revision{ID: 3, Answer: elicit.Answer{Values: []float64{0.5, 0.4, 0.6}}}
+	bad := workshop.Revision{ID: 3, Answer: workshop.Answer{Values: []float64{0.5, 0.4, 0.6}}}
 	_, werr := q.Fit(bad.Answer)
 	if werr == nil {
 		t.Fatal("elicit accepted values that do not increase")
@@ -167,7 +167,7 @@ func TestPanelShowsTheRoundAsItClosed(t *testing.T) {
 	}
 	params := func(vals ...float64) string {
 		t.Helper()
-		fit, err := g.q.Fit(elicit.Answer{Values: vals})
+		fit, err := g.q.Fit(workshop.Answer{Values: vals})
 		if err != nil {
 			t.Fatal(err)
 		}
@@ -219,9 +219,9 @@ func TestPanelShowsTheRoundAsItClosed(t *testing.T) {
 }
 
 // params2 is the preview's wording of the fit to vals.
-func params2(t *testing.T, q elicit.Question, vals ...float64) string {
+func params2(t *testing.T, q workshop.Question, vals ...float64) string {
 	t.Helper()
-	fit, err := q.Fit(elicit.Answer{Values: vals})
+	fit, err := q.Fit(workshop.Answer{Values: vals})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -286,7 +286,7 @@ func TestPanelOrderNeedsTheSalt(t *testing.T) {
 // failingFeedback is the store with the round feedback's read failing.
 type failingFeedback struct{ *store.DB }
 
-func (failingFeedback) LatestRevisions(context.Context, int64, int) ([]elicit.Revision, error) {
+func (failingFeedback) LatestRevisions(context.Context, int64, int) ([]workshop.Revision, error) {
 	return nil, errors.New("disk unreadable (test)")
 }
 

@@ -2,129 +2,21 @@ package web
 
 import (
 	"errors"
-	"fmt"
-	"math"
 	"net/http"
 	"net/url"
-	"regexp"
-	"strconv"
 	"strings"
-	"unicode"
-	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // This file is the one path by which typed form input becomes values:
-// every number and every text field of every form goes through it, so the
-// rules in DEVELOPERS.md hold everywhere.
+// every number and every text field of every form goes through it, and
+// through package input's rules, so the rules in DEVELOPERS.md hold
+// everywhere.
 
-// Rules of form input, beside elicit's own.
-const (
-	RuleNumberSyntax elicit.Rule = "must be a plain decimal number such as 0.25 or 2.5e-3 (a point for decimals, no thousands separators)"
-	RuleTextValid    elicit.Rule = "must be plain text (no control characters)"
-	RuleChoice       elicit.Rule = "must be one of the offered choices"
-)
-
-// Text field limits, in characters.
-const (
-	MaxShortText = 200  // names, titles, units
-	MaxLongText  = 4000 // wording, purpose, notes, reasons, rationales
-	MaxListItems = 40   // numbers in one list field
-)
-
-// plainNumber is the only number syntax accepted: optional sign, decimal
-// digits with at most one point, optional exponent. It excludes NaN, Inf,
-// hex, underscores, thousands separators and a decimal comma, all of which
-// strconv.ParseFloat would take or half-take.
-var plainNumber = regexp.MustCompile(`^[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?$`)
-
-// parseFloatField parses raw as a finite number for the named field.
-// Surrounding spaces are ignored; anything else that is not a plain
-// decimal number is an *elicit.InputError naming the field: RuleRequired
-// when empty, RuleNumberSyntax for bad syntax, RuleFinite when out of the
-// float64 range.
-func parseFloatField(name, raw string) (float64, error) {
-	s := strings.TrimSpace(raw)
-	if s == "" {
-		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
-	}
-	if len(s) > 64 || !plainNumber.MatchString(s) {
-		return 0, &elicit.InputError{Field: name, Rule: RuleNumberSyntax, Detail: fmt.Sprintf("got %q", clip(s, 24))}
-	}
-	v, err := strconv.ParseFloat(s, 64)
-	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
-		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %q", clip(s, 24))}
-	}
-	return v, nil
-}
-
-// parseIntField parses raw as a whole number in [min, max].
-func parseIntField(name, raw string, min, max int) (int, error) {
-	s := strings.TrimSpace(raw)
-	if s == "" {
-		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
-	}
-	if len(s) > 12 || strings.TrimLeft(s, "0123456789") != "" {
-		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleInteger, Detail: fmt.Sprintf("got %q", clip(s, 24))}
-	}
-	n, err := strconv.Atoi(s)
-	if err != nil || n < min || n > max {
-		return 0, &elicit.InputError{Field: name, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, clip(s, 24))}
-	}
-	return n, nil
-}
-
-// parseFloatList parses a list of numbers separated by spaces, commas or
-// semicolons, each by parseFloatField's rule. Item i is reported as
-// name[i].
-func parseFloatList(name, raw string) ([]float64, error) {
-	items := strings.FieldsFunc(raw, func(r rune) bool { return r == ',' || r == ';' || unicode.IsSpace(r) })
-	if len(items) == 0 {
-		return nil, &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
-	}
-	if len(items) > MaxListItems {
-		return nil, &elicit.InputError{Field: name, Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d numbers, got %d", MaxListItems, len(items))}
-	}
-	out := make([]float64, len(items))
-	for i, it := range items {
-		v, err := parseFloatField(fmt.Sprintf("%s[%d]", name, i), it)
-		if err != nil {
-			return nil, err
-		}
-		out[i] = v
-	}
-	return out, nil
-}
-
-// parseTextField trims raw and checks it is valid UTF-8 without control
-// characters (newlines and tabs are allowed), at most max characters, and
-// present when required.
-func parseTextField(name, raw string, max int, required bool) (string, error) {
-	s := strings.TrimSpace(raw)
-	if !utf8.ValidString(s) {
-		return "", &elicit.InputError{Field: name, Rule: RuleTextValid, Detail: "not UTF-8"}
-	}
-	for _, r := range s {
-		if unicode.IsControl(r) && r != '\n' && r != '\r' && r != '\t' {
-			return "", &elicit.InputError{Field: name, Rule: RuleTextValid, Detail: fmt.Sprintf("character %U", r)}
-		}
-	}
-	if required && s == "" {
-		return "", &elicit.InputError{Field: name, Rule: elicit.RuleRequired}
-	}
-	if n := utf8.RuneCountInString(s); n > max {
-		return "", &elicit.InputError{Field: name, Rule: elicit.RuleTooLong, Detail: fmt.Sprintf("at most %d characters, got %d", max, n)}
-	}
-	return s, nil
-}
-
-func clip(s string, n int) string {
-	if utf8.RuneCountInString(s) <= n {
-		return s
-	}
-	return string([]rune(s)[:n]) + "…"
-}
+// RuleChoice is broken by a value that is not one of a field's choices.
+const RuleChoice elicit.Rule = "must be one of the offered choices"
 
 // FormErrors maps a form field's name to the message shown beside it.
 // The key "" holds a message about the form as a whole.
@@ -246,7 +138,7 @@ func (f *Form) set(name, msg string) {
 
 // Float parses a required number field, recording any error.
 func (f *Form) Float(name string) float64 {
-	v, err := parseFloatField(name, f.Value(name))
+	v, err := input.Number(name, f.Value(name))
 	f.failField(name, err)
 	return v
 }
@@ -256,28 +148,28 @@ func (f *Form) OptionalFloat(name string) (float64, bool) {
 	if strings.TrimSpace(f.Value(name)) == "" {
 		return 0, false
 	}
-	v, err := parseFloatField(name, f.Value(name))
+	v, err := input.Number(name, f.Value(name))
 	f.failField(name, err)
 	return v, err == nil
 }
 
 // Int parses a required whole-number field in [min, max].
 func (f *Form) Int(name string, min, max int) int {
-	v, err := parseIntField(name, f.Value(name), min, max)
+	v, err := input.Whole(name, f.Value(name), min, max)
 	f.failField(name, err)
 	return v
 }
 
 // FloatList parses a required list-of-numbers field.
 func (f *Form) FloatList(name string) []float64 {
-	v, err := parseFloatList(name, f.Value(name))
+	v, err := input.Numbers(name, f.Value(name))
 	f.failField(name, err)
 	return v
 }
 
 // Text parses a text field with the given limit.
 func (f *Form) Text(name string, max int, required bool) string {
-	v, err := parseTextField(name, f.Value(name), max, required)
+	v, err := input.Text(name, f.Value(name), max, required)
 	f.failField(name, err)
 	return v
 }

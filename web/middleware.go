@@ -6,12 +6,19 @@ import (
 	"net/http"
 	"regexp"
 	"sort"
+	"strconv"
 	"strings"
+
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
-// MaxBodyBytes is the largest request body Parley reads. Every form in
-// the app fits in a few kilobytes; anything larger is refused with 413.
-const MaxBodyBytes = 64 << 10
+// MaxBodyBytes is the largest request body Parley reads; anything larger
+// is refused with 413. The largest form, a workshop's title, purpose,
+// decision and notes (input.MaxShortText + 3 × input.MaxLongText = 12,200
+// characters), takes about 146 kB at its limits in four-byte letters,
+// each sent percent-encoded as 12 bytes; 256 KiB leaves room for every
+// form's other fields.
+const MaxBodyBytes = 256 << 10
 
 // contentSecurityPolicy allows only Parley's own embedded assets: no
 // inline script or style anywhere, no framing, forms post only to us.
@@ -55,15 +62,19 @@ func limitBody(next http.Handler) http.Handler {
 	})
 }
 
+// maxBodyText is MaxBodyBytes in words.
+var maxBodyText = strconv.Itoa(MaxBodyBytes>>10) + " KiB"
+
 // sheetUpload is the one address that takes more than MaxBodyBytes: an
 // answer sheet's upload.
 var sheetUpload = regexp.MustCompile(`^/w/[0-9]+/answers/import$`)
 
 func tooLarge(w http.ResponseWriter) {
+	msg := "The request is larger than Parley accepts (" + maxBodyText + ").\n"
 	w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 	w.Header().Set("Connection", "close")
 	w.WriteHeader(http.StatusRequestEntityTooLarge)
-	_, _ = w.Write([]byte("The request is larger than Parley accepts (64 KiB).\n"))
+	_, _ = w.Write([]byte(msg))
 }
 
 // crossOrigin wraps next in net/http's CrossOriginProtection, and goes one
@@ -118,7 +129,7 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 	if len(names) > 0 {
 		sort.Strings(names)
 		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d. Nothing was saved.",
-			clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
+			input.Clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
 		return false
 	}
 	return true

@@ -14,7 +14,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -25,10 +25,10 @@ var errDiskFull = errors.New("store: commit: database or disk is full")
 // reads and signing in still work.
 type fullDisk struct{ *store.DB }
 
-func (fullDisk) CreateWorkshop(context.Context, *elicit.Workshop) error { return errDiskFull }
-func (fullDisk) UpdateWorkshop(context.Context, elicit.Workshop) error  { return errDiskFull }
-func (fullDisk) AddQuestion(context.Context, *elicit.Question) error    { return errDiskFull }
-func (fullDisk) AddExpert(context.Context, *elicit.Expert, []byte) error {
+func (fullDisk) CreateWorkshop(context.Context, *workshop.Workshop) error { return errDiskFull }
+func (fullDisk) UpdateWorkshop(context.Context, workshop.Workshop) error  { return errDiskFull }
+func (fullDisk) AddQuestion(context.Context, *workshop.Question) error    { return errDiskFull }
+func (fullDisk) AddExpert(context.Context, *workshop.Expert, []byte) error {
 	return errDiskFull
 }
 func (fullDisk) RevokeExpert(context.Context, int64, string) error { return errDiskFull }
@@ -36,19 +36,19 @@ func (fullDisk) ReissueToken(context.Context, int64, []byte, string) error {
 	return errDiskFull
 }
 func (fullDisk) SetRound(context.Context, int64, int, bool, string) error { return errDiskFull }
-func (fullDisk) SaveRevision(context.Context, *elicit.Revision) error     { return errDiskFull }
-func (fullDisk) SetWeights(context.Context, *elicit.Weights) error        { return errDiskFull }
-func (fullDisk) AgreePrior(context.Context, *elicit.AgreedPrior) error    { return errDiskFull }
+func (fullDisk) SaveRevision(context.Context, *workshop.Revision) error   { return errDiskFull }
+func (fullDisk) SetWeights(context.Context, *workshop.Weights) error      { return errDiskFull }
+func (fullDisk) AgreePrior(context.Context, *workshop.AgreedPrior) error  { return errDiskFull }
 func (fullDisk) SetTrueValue(context.Context, int64, float64, bool, string) error {
 	return errDiskFull
 }
-func (fullDisk) EditQuestion(context.Context, elicit.Question, string) error   { return errDiskFull }
+func (fullDisk) EditQuestion(context.Context, workshop.Question, string) error { return errDiskFull }
 func (fullDisk) SetQuestionRetired(context.Context, int64, bool, string) error { return errDiskFull }
 func (fullDisk) ReopenRound(context.Context, int64, string) error              { return errDiskFull }
 func (fullDisk) SetArchived(context.Context, int64, bool, string) error        { return errDiskFull }
 func (fullDisk) DeleteWorkshop(context.Context, int64, string) error           { return errDiskFull }
 func (fullDisk) SetReasonWithheld(context.Context, int64, bool, string) error  { return errDiskFull }
-func (fullDisk) SaveRevisions(context.Context, []elicit.Revision) error        { return errDiskFull }
+func (fullDisk) SaveRevisions(context.Context, []workshop.Revision) error      { return errDiskFull }
 
 // TestSaveOnAFullDisk: when the server cannot write (disk full, I/O
 // error), an expert's save and every facilitator form answer 503 with the
@@ -87,9 +87,9 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	before := h.counts(ws.ID)
 
 	// The expert.
-	var q elicit.Question
+	var q workshop.Question
 	for _, cand := range qs {
-		if cand.Format == elicit.FormatQuantiles && len(cand.Probs) == 3 {
+		if cand.Format == workshop.FormatQuantiles && len(cand.Probs) == 3 {
 			q = cand
 			break
 		}
@@ -111,7 +111,7 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	// The facilitator's forms.
 	wp := workshopPath(ws.ID)
 	qp := questionPath(ws.ID, q.ID)
-	var seed elicit.Question
+	var seed workshop.Question
 	for _, cand := range qs {
 		if cand.Calibration {
 			seed = cand
@@ -120,13 +120,13 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	}
 	// A revision with a reason, to withhold, and a workshop nobody
 	// answered, to delete: written before the disk "filled".
-	withReason := elicit.Revision{QuestionID: q.ID, ExpertID: es[2].ID, Answer: elicit.Answer{Values: []float64{0.01, 0.03, 0.08}},
+	withReason := workshop.Revision{QuestionID: q.ID, ExpertID: es[2].ID, Answer: workshop.Answer{Values: []float64{0.01, 0.03, 0.08}},
 		Reason: "Names someone (invented)"}
 	if err := h.db.SaveRevision(context.Background(), &withReason); err != nil {
 		t.Fatal(err)
 	}
 	reasoned := withReason.ID
-	empty := elicit.Workshop{Title: "Nobody answered (invented)"}
+	empty := workshop.Workshop{Title: "Nobody answered (invented)"}
 	if err := h.db.CreateWorkshop(context.Background(), &empty); err != nil {
 		t.Fatal(err)
 	}

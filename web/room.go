@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -17,7 +18,7 @@ import (
 // roomView is what the room page shows.
 type roomView struct {
 	Title    string // the workshop's
-	Question elicit.Question
+	Question workshop.Question
 	Index    int // the question's place among those shown, from 1
 	Of       int
 	Prev     string // the previous and next questions' room views, "" at the ends
@@ -39,7 +40,7 @@ type roomView struct {
 // roomRound is the round whose close the room shows: while a round is
 // open, the one before it (what the experts see now); once it closes, the
 // round just closed (what they will see in the next round).
-func roomRound(w elicit.Workshop) int {
+func roomRound(w workshop.Workshop) int {
 	if w.Open {
 		return w.Round - 1
 	}
@@ -63,7 +64,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := roomView{Title: ws.Title, Question: q, Events: workshopPath(ws.ID) + "/events", Through: roomRound(ws)}
-	var shown []elicit.Question
+	var shown []workshop.Question
 	for _, x := range qs {
 		if !x.Retired || x.ID == q.ID {
 			shown = append(shown, x)
@@ -95,7 +96,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 
 // fillRoom reads the panel as roomRound's close and the open round's
 // progress into v.
-func (s *Server) fillRoom(r *http.Request, ws elicit.Workshop, q elicit.Question, v *roomView) error {
+func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Question, v *roomView) error {
 	experts, err := s.store.Experts(r.Context(), ws.ID)
 	if err != nil {
 		return err

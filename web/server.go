@@ -21,6 +21,7 @@ import (
 
 	"github.com/a-h/templ"
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/internal/memo"
 )
 
@@ -159,15 +160,15 @@ func (s *Server) notFound(w http.ResponseWriter, r *http.Request) {
 func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	var ie *elicit.InputError
 	switch {
-	case errors.Is(err, elicit.ErrNotFound):
+	case errors.Is(err, workshop.ErrNotFound):
 		s.notFound(w, r)
 	case errors.As(err, &ie):
 		s.renderPage(w, r, http.StatusBadRequest, PageMeta{Title: "Not accepted"},
 			messagePage("Not accepted", ie.Field+": "+string(ie.Rule)+detailSuffix(ie.Detail)))
-	case errors.Is(err, elicit.ErrRetired):
+	case errors.Is(err, workshop.ErrRetired):
 		s.renderPage(w, r, http.StatusGone, PageMeta{Title: "Question withdrawn"},
 			messagePage("Question withdrawn", "The facilitator has withdrawn this question, so it takes no answers. Your other questions are on your own page; your private link still works."))
-	case errors.Is(err, elicit.ErrRoundClosed):
+	case errors.Is(err, workshop.ErrRoundClosed):
 		s.renderPage(w, r, http.StatusConflict, PageMeta{Title: "Round closed"},
 			messagePage("Round closed", "The round is closed, so nothing was saved."))
 	case errors.Is(err, context.Canceled) || r.Context().Err() != nil:
@@ -199,8 +200,8 @@ func serverFault(r *http.Request, err error) bool {
 	if err == nil || r.Context().Err() != nil || errors.Is(err, context.Canceled) || errors.As(err, &ie) {
 		return false
 	}
-	for _, refusal := range []error{elicit.ErrNotFound, elicit.ErrRoundClosed, elicit.ErrAnswersFrozen,
-		elicit.ErrRetired, elicit.ErrRevoked, elicit.ErrRoundStillOpen} {
+	for _, refusal := range []error{workshop.ErrNotFound, workshop.ErrRoundClosed, workshop.ErrAnswersFrozen,
+		workshop.ErrRetired, workshop.ErrRevoked, workshop.ErrRoundStillOpen} {
 		if errors.Is(err, refusal) {
 			return false
 		}

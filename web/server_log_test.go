@@ -13,7 +13,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -43,7 +43,7 @@ func (s *trouble) current() string {
 // save; "fail" makes it an error, "stall" waits for the client to go
 // away and then pretends the read went well, so the page is drawn for
 // nobody.
-func (s *trouble) QuestionExpertRevisions(ctx context.Context, q, e int64) ([]elicit.Revision, error) {
+func (s *trouble) QuestionExpertRevisions(ctx context.Context, q, e int64) ([]workshop.Revision, error) {
 	switch s.current() {
 	case "fail":
 		return nil, errors.New(s.errText)
@@ -57,7 +57,7 @@ func (s *trouble) QuestionExpertRevisions(ctx context.Context, q, e int64) ([]el
 
 // ExpertRevisions is read by the expert's home page; "wait" holds it
 // until the client goes away.
-func (s *trouble) ExpertRevisions(ctx context.Context, e int64) ([]elicit.Revision, error) {
+func (s *trouble) ExpertRevisions(ctx context.Context, e int64) ([]workshop.Revision, error) {
 	switch s.current() {
 	case "wait":
 		s.entered <- struct{}{}

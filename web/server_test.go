@@ -17,7 +17,7 @@ import (
 
 	"golang.org/x/crypto/bcrypt"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -121,7 +121,7 @@ func (h *harness) workshopCount() int {
 }
 
 // newWorkshop creates a workshop through the form and returns its ID.
-func (h *harness) newWorkshop(title string) elicit.Workshop {
+func (h *harness) newWorkshop(title string) workshop.Workshop {
 	h.t.Helper()
 	res, body := h.post("/workshops", url.Values{"title": {title}, "purpose": {"Invented test purpose"}})
 	if res.StatusCode != http.StatusSeeOther {
@@ -137,14 +137,14 @@ func (h *harness) newWorkshop(title string) elicit.Workshop {
 		}
 	}
 	h.t.Fatalf("workshop %q not saved", title)
-	return elicit.Workshop{}
+	return workshop.Workshop{}
 }
 
 var linkPattern = regexp.MustCompile(`/e/([A-Za-z0-9_-]{43})/`)
 
 // addExpert adds an expert through the form and returns the token shown
 // once on the page.
-func (h *harness) addExpert(ws elicit.Workshop, name string) (elicit.Expert, string) {
+func (h *harness) addExpert(ws workshop.Workshop, name string) (workshop.Expert, string) {
 	h.t.Helper()
 	res, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "affiliation": {"Invented Co."}})
 	if res.StatusCode != http.StatusSeeOther {
@@ -170,7 +170,7 @@ func (h *harness) addExpert(ws elicit.Workshop, name string) (elicit.Expert, str
 		}
 	}
 	h.t.Fatalf("expert %q not saved", name)
-	return elicit.Expert{}, ""
+	return workshop.Expert{}, ""
 }
 
 func TestSecurityHeadersOnEveryResponse(t *testing.T) {
@@ -216,7 +216,7 @@ func TestNoInlineScriptOrStyle(t *testing.T) {
 
 func TestFacilitatorPagesNeedSession(t *testing.T) {
 	h := newHarness(t)
-	ws := elicit.Workshop{Title: "Private"}
+	ws := workshop.Workshop{Title: "Private"}
 	if err := h.db.CreateWorkshop(context.Background(), &ws); err != nil {
 		t.Fatal(err)
 	}

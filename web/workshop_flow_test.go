@@ -18,6 +18,8 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -94,7 +96,7 @@ func (c *flowClient) mustPost(what, path string, form url.Values, want int) (*ht
 }
 
 // exportJSON downloads and decodes the workshop's record.
-func (c *flowClient) exportJSON(wp string) elicit.Record {
+func (c *flowClient) exportJSON(wp string) record.Record {
 	c.t.Helper()
 	res, body := c.get(wp + "/export.json")
 	if res.StatusCode != http.StatusOK {
@@ -103,7 +105,7 @@ func (c *flowClient) exportJSON(wp string) elicit.Record {
 	if strings.Contains(body, "NaN") {
 		c.t.Errorf("export.json contains NaN")
 	}
-	var rec elicit.Record
+	var rec record.Record
 	if err := json.Unmarshal([]byte(body), &rec); err != nil {
 		c.t.Fatalf("export.json does not decode: %v", err)
 	}
@@ -117,7 +119,7 @@ type sentRevision struct {
 	question string // quantity
 	round    int
 	reason   string
-	answer   elicit.Answer
+	answer   workshop.Answer
 	id       int64 // filled in from the export
 }
 
@@ -172,9 +174,9 @@ func TestWholeWorkshop(t *testing.T) {
 	}, http.StatusSeeOther)
 	// The questions as this test defined them; elicit fits with these, not
 	// with what the server stored.
-	defs := map[string]elicit.Question{
-		qLate:   {Lower: 0, Upper: 1, Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Wording: "w", Quantity: qLate},
-		qCancel: {Lower: 0, Upper: 1, Format: elicit.FormatInterval, Wording: "w", Quantity: qCancel},
+	defs := map[string]workshop.Question{
+		qLate:   {Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Wording: "w", Quantity: qLate},
+		qCancel: {Lower: 0, Upper: 1, Format: workshop.FormatInterval, Wording: "w", Quantity: qCancel},
 	}
 
 	// Three experts; each private link is shown once on the page.
@@ -209,7 +211,7 @@ func TestWholeWorkshop(t *testing.T) {
 	answer := func(name, quantity string, round int, reason string, typed ...string) {
 		t.Helper()
 		form := url.Values{"reason": {reason}}
-		var a elicit.Answer
+		var a workshop.Answer
 		nums := make([]float64, len(typed))
 		for i, s := range typed {
 			x, err := strconv.ParseFloat(s, 64)
@@ -219,16 +221,16 @@ func TestWholeWorkshop(t *testing.T) {
 			nums[i] = x
 		}
 		switch defs[quantity].Format {
-		case elicit.FormatInterval:
+		case workshop.FormatInterval:
 			for i, k := range []string{"lowest", "highest", "best", "confidence"} {
 				form.Set(k, typed[i])
 			}
-			a = elicit.Answer{Lowest: nums[0], Highest: nums[1], Best: nums[2], Confidence: nums[3] / 100}
+			a = workshop.Answer{Lowest: nums[0], Highest: nums[1], Best: nums[2], Confidence: nums[3] / 100}
 		default:
 			for i, s := range typed {
 				form.Set("values["+strconv.Itoa(i)+"]", s)
 			}
-			a = elicit.Answer{Values: nums}
+			a = workshop.Answer{Values: nums}
 		}
 		path := links[name] + "/q/" + strconv.FormatInt(qid[quantity], 10) + "/save"
 		experts.mustPost(name+" answers "+quantity, path, form, http.StatusSeeOther)
@@ -272,7 +274,7 @@ func TestWholeWorkshop(t *testing.T) {
 	const poolRationale = "The weighted pool is close enough to a single Beta (invented)."
 	fac.mustPost("agree pool", qp(qLate)+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {poolRationale}}, http.StatusSeeOther)
 	const consensusRationale = "The panel settled on one interval after discussion (invented)."
-	consensus := elicit.Answer{Lowest: 0.002, Highest: 0.03, Best: 0.009, Confidence: 0.8}
+	consensus := workshop.Answer{Lowest: 0.002, Highest: 0.03, Best: 0.009, Confidence: 0.8}
 	fac.mustPost("agree consensus", qp(qCancel)+"/agree", url.Values{"source": {"consensus"}, "confirm_open": {"on"}, "rationale": {consensusRationale},
 		"lowest": {"0.002"}, "highest": {"0.03"}, "best": {"0.009"}, "confidence": {"80"}}, http.StatusSeeOther)
 
@@ -322,7 +324,7 @@ func TestWholeWorkshop(t *testing.T) {
 	for _, s := range sent {
 		latest[[2]int64{qid[s.question], eid[s.expert]}] = s
 	}
-	byQuantity := map[string]elicit.RecordQuestion{}
+	byQuantity := map[string]record.Question{}
 	for _, q := range rec.Questions {
 		byQuantity[q.Quantity] = q
 	}
@@ -386,7 +388,7 @@ func TestWholeWorkshop(t *testing.T) {
 		t.Fatal(err)
 	}
 	ap := late.AgreedPrior
-	if ap == nil || ap.Source != elicit.PriorFromPool || ap.Rationale != poolRationale || ap.Round != 2 {
+	if ap == nil || ap.Source != workshop.PriorFromPool || ap.Rationale != poolRationale || ap.Round != 2 {
 		t.Fatalf("late share agreed prior %+v", ap)
 	}
 	if !close9(ap.Dist.Alpha, best.Dist.Alpha) || !close9(ap.Dist.Beta.Beta, best.Dist.Beta.Beta) ||
@@ -401,7 +403,7 @@ func TestWholeWorkshop(t *testing.T) {
 		t.Fatal(err)
 	}
 	cp := byQuantity[qCancel].AgreedPrior
-	if cp == nil || cp.Source != elicit.PriorFromConsensus || cp.Rationale != consensusRationale || cp.Consensus == nil ||
+	if cp == nil || cp.Source != workshop.PriorFromConsensus || cp.Rationale != consensusRationale || cp.Consensus == nil ||
 		!sameAnswer(*cp.Consensus, consensus) {
 		t.Fatalf("cancelled share agreed prior %+v", cp)
 	}
@@ -410,7 +412,7 @@ func TestWholeWorkshop(t *testing.T) {
 	}
 
 	// The weights in the record.
-	if rec.Weights.Scheme != elicit.WeightsCustom || rec.Weights.Reason != weightsReason {
+	if rec.Weights.Scheme != workshop.WeightsCustom || rec.Weights.Reason != weightsReason {
 		t.Errorf("record weights %+v", rec.Weights)
 	}
 	for n, w := range weights {
@@ -421,7 +423,7 @@ func TestWholeWorkshop(t *testing.T) {
 
 	// The decisions are events with their reasons.
 	type ev struct {
-		kind     elicit.EventKind
+		kind     workshop.EventKind
 		question int64
 		reason   string
 	}
@@ -430,20 +432,20 @@ func TestWholeWorkshop(t *testing.T) {
 		have[ev{e.Kind, e.QuestionID, e.Reason}]++
 	}
 	for _, want := range []ev{
-		{elicit.EventRoundClosed, 0, ""},
-		{elicit.EventRoundOpened, 0, openReason},
-		{elicit.EventWeightsSet, 0, weightsReason},
-		{elicit.EventPriorAgreed, qid[qLate], poolRationale},
-		{elicit.EventPriorAgreed, qid[qCancel], consensusRationale},
+		{workshop.EventRoundClosed, 0, ""},
+		{workshop.EventRoundOpened, 0, openReason},
+		{workshop.EventWeightsSet, 0, weightsReason},
+		{workshop.EventPriorAgreed, qid[qLate], poolRationale},
+		{workshop.EventPriorAgreed, qid[qCancel], consensusRationale},
 	} {
 		if have[want] != 1 {
 			t.Errorf("events: %d of %+v, want 1 (events %+v)", have[want], want, rec.Events)
 		}
 	}
-	if n := countKind(rec.Events, elicit.EventExpertAdded); n != len(names) {
+	if n := countKind(rec.Events, workshop.EventExpertAdded); n != len(names) {
 		t.Errorf("events: %d experts added, want %d", n, len(names))
 	}
-	if n := countKind(rec.Events, elicit.EventQuestionAdded); n != 2 {
+	if n := countKind(rec.Events, workshop.EventQuestionAdded); n != 2 {
 		t.Errorf("events: %d questions added, want 2", n)
 	}
 
@@ -494,7 +496,7 @@ func TestWholeWorkshop(t *testing.T) {
 	}
 }
 
-func sameAnswer(a, b elicit.Answer) bool {
+func sameAnswer(a, b workshop.Answer) bool {
 	if len(a.Values) != len(b.Values) || len(a.Counts) != len(b.Counts) {
 		return false
 	}
@@ -516,7 +518,7 @@ func close9(got, want float64) bool {
 	return math.Abs(got-want) <= 1e-9*math.Max(1, math.Abs(want))
 }
 
-func indexOf(revs []elicit.RecordRevision, id int64) int {
+func indexOf(revs []record.Revision, id int64) int {
 	for i, rv := range revs {
 		if rv.ID == id {
 			return i
@@ -525,7 +527,7 @@ func indexOf(revs []elicit.RecordRevision, id int64) int {
 	return 0
 }
 
-func countKind(evs []elicit.Event, k elicit.EventKind) int {
+func countKind(evs []workshop.Event, k workshop.EventKind) int {
 	n := 0
 	for _, e := range evs {
 		if e.Kind == k {

@@ -3,13 +3,12 @@ package main
 import (
 	"bytes"
 	"context"
-	"encoding/json"
 	"errors"
 	"io"
 	"os"
 	"time"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 func init() {
@@ -19,7 +18,7 @@ func init() {
 func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("export", stderr)
 	dbPath := fs.String("db", "", "database `file`")
-	workshop := fs.Int64("workshop", 0, "workshop `ID`")
+	workshopID := fs.Int64("workshop", 0, "workshop `ID`")
 	format := fs.String("format", "json", "json (the whole record), csv (one row per revision) or priors (one row per agreed prior, CSV)")
 	question := fs.Int64("question", 0, "export only this question `ID`")
 	out := fs.String("out", "", "write to `file` instead of standard output")
@@ -29,7 +28,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if *format != "json" && *format != "csv" && *format != "priors" {
 		return fail(stderr, "export", badInput("format", "must be json, csv or priors, got %q", *format))
 	}
-	if *workshop <= 0 {
+	if *workshopID <= 0 {
 		return fail(stderr, "export", badInput("workshop", "a workshop ID (a whole number above 0) is required"))
 	}
 	db, err := openExisting(*dbPath)
@@ -37,16 +36,16 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return fail(stderr, "export", err)
 	}
 	defer db.Close()
-	rec, err := db.Record(context.Background(), *workshop, time.Now())
-	if errors.Is(err, elicit.ErrNotFound) {
-		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshop, *dbPath))
+	rec, err := db.Record(context.Background(), *workshopID, time.Now())
+	if errors.Is(err, workshop.ErrNotFound) {
+		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshopID, *dbPath))
 	}
 	if err != nil {
 		return fail(stderr, "export", err)
 	}
 	if *question != 0 {
 		if rec, err = rec.ForQuestion(*question); err != nil {
-			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshop))
+			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshopID))
 		}
 	}
 	var buf bytes.Buffer
@@ -56,9 +55,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	case "priors":
 		err = rec.WritePriorsCSV(&buf)
 	default:
-		enc := json.NewEncoder(&buf)
-		enc.SetIndent("", "  ")
-		err = enc.Encode(rec)
+		err = rec.WriteJSON(&buf)
 	}
 	if err != nil {
 		return fail(stderr, "export", err)

@@ -9,7 +9,7 @@ import (
 	"os"
 	"path/filepath"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -41,7 +41,7 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		r = f
 	}
 	// The record is parsed and validated before the database is touched.
-	rec, err := elicit.ParseRecord(r)
+	rec, err := record.Parse(r)
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
@@ -58,7 +58,7 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 // new one is built under a temporary name in the same folder and renamed
 // into place only when whole and closed: a failed import (a full disk, an
 // I/O error) removes it with its journal files and leaves nothing behind.
-func importInto(path string, rec elicit.Record) (int64, error) {
+func importInto(path string, rec record.Record) (int64, error) {
 	if _, err := os.Stat(path); err == nil {
 		db, err := store.Open(path)
 		if err != nil {

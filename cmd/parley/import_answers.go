@@ -8,6 +8,7 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -23,10 +24,10 @@ func init() {
 func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("import-answers", stderr)
 	dbPath := fs.String("db", "", "database `file`")
-	workshop := fs.String("workshop", "", "workshop `ID`")
+	workshopID := fs.String("workshop", "", "workshop `ID`")
 	in := fs.String("in", "", "answer sheet `file` (CSV), or - for standard input")
 	dryRun := fs.Bool("dry-run", false, "check the sheet and print what would be saved, without saving")
-	channel := fs.String("channel", string(elicit.ChannelFile), "how the judgements reached you: in_person, phone, paper_form, message or file")
+	channel := fs.String("channel", string(workshop.ChannelFile), "how the judgements reached you: in_person, phone, paper_form, message or file")
 	if err := fs.Parse(args); err != nil {
 		return exitBadInput
 	}
@@ -36,12 +37,12 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if *dbPath == "" {
 		return fail(stderr, "import-answers", badInput("db", "a database file is required"))
 	}
-	id, err := strconv.ParseInt(*workshop, 10, 64)
+	id, err := strconv.ParseInt(*workshopID, 10, 64)
 	if err != nil || id <= 0 {
 		return fail(stderr, "import-answers", badInput("workshop", "must be a workshop ID, a whole number above 0"))
 	}
-	ch := elicit.Channel(*channel)
-	if err := (elicit.Revision{EnteredBy: elicit.ByFacilitator, Channel: ch}).CheckProvenance(); err != nil {
+	ch := workshop.Channel(*channel)
+	if err := (workshop.Revision{EnteredBy: workshop.ByFacilitator, Channel: ch}).CheckProvenance(); err != nil {
 		return fail(stderr, "import-answers", badInput("channel", "must be one of in_person, phone, paper_form, message, file"))
 	}
 	var r io.Reader = stdin

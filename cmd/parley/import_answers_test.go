@@ -8,11 +8,11 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
-func revisionsIn(t *testing.T, path string, ws int64) []elicit.Revision {
+func revisionsIn(t *testing.T, path string, ws int64) []workshop.Revision {
 	t.Helper()
 	db, err := store.Open(path)
 	if err != nil {
@@ -58,7 +58,7 @@ func TestImportAnswers(t *testing.T) {
 		t.Fatalf("%d revisions saved", len(revs)-before)
 	}
 	for _, rv := range revs[before:] {
-		if rv.EnteredBy != elicit.ByFacilitator || rv.Channel != elicit.ChannelPaperForm {
+		if rv.EnteredBy != workshop.ByFacilitator || rv.Channel != workshop.ChannelPaperForm {
 			t.Errorf("saved provenance %q %q", rv.EnteredBy, rv.Channel)
 		}
 	}

@@ -9,12 +9,13 @@ import (
 	"math"
 	"strings"
 
-	"github.com/parley-elicit/parley/web"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // Command-line input for the scripting commands (fit, pool, update).
-// Numbers go through web's strict parser, the one rule for every number
-// Parley reads: plain decimals only, no NaN, Inf, hex or underscores.
+// Numbers go through package input, the one rule for every number Parley
+// reads, in a form or on the command line: plain decimals only, no NaN,
+// Inf, hex or underscores.
 
 // priorCaution is shown with every fitted, pooled or updated prior in
 // text output.
@@ -49,14 +50,14 @@ func checkFormat(format string) error {
 }
 
 // number parses the value of flag --field.
-func number(field, raw string) (float64, error) { return web.ParseNumber(field, raw) }
+func number(field, raw string) (float64, error) { return input.Number(field, raw) }
 
 // numbers parses a comma-separated list given to flag --field.
-func numbers(field, raw string) ([]float64, error) { return web.ParseNumberList(field, raw) }
+func numbers(field, raw string) ([]float64, error) { return input.Numbers(field, raw) }
 
 // count parses a whole number in [0, max] given to flag --field.
 func count(field, raw string, max int) (int, error) {
-	return web.ParseWholeNumber(field, raw, 0, max)
+	return input.Whole(field, raw, 0, max)
 }
 
 // writeJSON prints v as one indented JSON object.

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 func init() {
@@ -115,7 +116,7 @@ func readPoolInput(r io.Reader) (poolInput, error) {
 		return poolInput{}, err
 	}
 	if len(data) > maxPoolInput {
-		return poolInput{}, &elicit.InputError{Field: "stdin", Rule: elicit.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes", maxPoolInput)}
+		return poolInput{}, &elicit.InputError{Field: "stdin", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes", maxPoolInput)}
 	}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()

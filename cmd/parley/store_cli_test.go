@@ -15,6 +15,8 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -29,25 +31,25 @@ func cliWorkshop(t *testing.T) (path string, workshopID, questionID int64) {
 	}
 	defer db.Close()
 	ctx := context.Background()
-	w := elicit.Workshop{Title: "Hatchery survival (invented)", Invented: true}
+	w := workshop.Workshop{Title: "Hatchery survival (invented)", Invented: true}
 	check(t, db.CreateWorkshop(ctx, &w))
-	var qs []elicit.Question
+	var qs []workshop.Question
 	for _, wording := range []string{"Share of fry surviving a season?", "Share of tagged fish returning?"} {
-		q := elicit.Question{WorkshopID: w.ID, Wording: wording, Quantity: "survival share", Lower: 0, Upper: 1,
-			Format: elicit.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+		q := workshop.Question{WorkshopID: w.ID, Wording: wording, Quantity: "survival share", Lower: 0, Upper: 1,
+			Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
 		check(t, db.AddQuestion(ctx, &q))
 		qs = append(qs, q)
 	}
 	for i, name := range []string{"Ines", "Jomo"} {
-		e := elicit.Expert{WorkshopID: w.ID, Name: name}
+		e := workshop.Expert{WorkshopID: w.ID, Name: name}
 		check(t, db.AddExpert(ctx, &e, []byte("token-"+name)))
 		for _, q := range qs[:2-i] {
-			r := elicit.Revision{QuestionID: q.ID, ExpertID: e.ID,
-				Answer: elicit.Answer{Values: []float64{0.1, 0.2 + 0.05*float64(i), 0.4}}}
+			r := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID,
+				Answer: workshop.Answer{Values: []float64{0.1, 0.2 + 0.05*float64(i), 0.4}}}
 			check(t, db.SaveRevision(ctx, &r))
 		}
 	}
-	check(t, db.AgreePrior(ctx, &elicit.AgreedPrior{QuestionID: qs[0].ID, Source: elicit.PriorFromPool,
+	check(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 14}), Rationale: "the pool, unchanged", RoundOpen: true}))
 	return path, w.ID, qs[0].ID
 }
@@ -78,9 +80,9 @@ func TestExportJSON(t *testing.T) {
 	if err := sch.Validate(doc); err != nil {
 		t.Fatalf("export does not match the schema: %v", err)
 	}
-	var rec elicit.Record
+	var rec record.Record
 	check(t, json.Unmarshal([]byte(out), &rec))
-	if len(rec.Revisions) != 3 || rec.Caution != elicit.Caution || rec.Questions[0].AgreedPrior == nil {
+	if len(rec.Revisions) != 3 || rec.Caution != record.Caution || rec.Questions[0].AgreedPrior == nil {
 		t.Fatalf("record: %d revisions, caution %q, prior %v", len(rec.Revisions), rec.Caution, rec.Questions[0].AgreedPrior)
 	}
 
@@ -93,7 +95,7 @@ func TestExportJSON(t *testing.T) {
 	}
 	b, err := os.ReadFile(file)
 	check(t, err)
-	var one elicit.Record
+	var one record.Record
 	check(t, json.Unmarshal(b, &one))
 	if len(one.Questions) != 1 || one.Questions[0].ID != qid || len(one.Revisions) != 2 {
 		t.Fatalf("question export: %d questions, %d revisions", len(one.Questions), len(one.Revisions))
@@ -129,7 +131,7 @@ func TestExportPriorsCSV(t *testing.T) {
 	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()
 	check(t, err)
 	_, js, _ := run("export", "--db", path, "--workshop", ws, "--format", "json")
-	var rec elicit.Record
+	var rec record.Record
 	check(t, json.Unmarshal([]byte(js), &rec))
 	a := rec.Questions[0].AgreedPrior
 	if len(rows) != 2 || a == nil {
@@ -260,5 +262,64 @@ func TestImportCommand(t *testing.T) {
 		if code, _, _ := run(append([]string{"import"}, args...)...); code != exitBadInput {
 			t.Errorf("import %v: exit %d, want 2", args, code)
 		}
+	}
+}
+
+// parley import refuses what encoding/json alone would take (control
+// characters, duplicate keys, keys in another letter case) and numbers
+// outside their range, each with exit status 2 and one line naming the
+// path into the document; it creates no database file and adds nothing
+// to an existing one.
+func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	b, err := os.ReadFile(file)
+	check(t, err)
+	good := string(b)
+	existing := filepath.Join(t.TempDir(), "existing.db")
+	if code, _, errs := run("import", "--db", existing, "--in", file); code != exitOK {
+		t.Fatalf("import of the good record: %s", errs)
+	}
+	for _, tt := range []struct{ name, old, new, path string }{
+		{"ESC in the title", `"title": "Hatchery`, `"title": "\u001b[2JHatchery`, "workshop.title"},
+		{"NUL in a name", `"name": "Ines"`, `"name": "In\u0000es"`, "experts[0].name"},
+		{"BEL in a rationale", `"rationale": "the pool`, `"rationale": "\u0007the pool`, "questions[0].agreed_prior.rationale"},
+		{"duplicate key", `"name": "Jomo"`, `"name": "Jomo", "name": "Mallory"`, "experts[1].name"},
+		{"key in another case", `"title": "Hatchery`, `"TITLE": "Hatchery`, "workshop.TITLE"},
+		{"round out of range", `"round": 1,`, `"round": 101,`, "workshop.round"},
+		{"round that overflows", `"round": 1,`, `"round": 9223372036854775807,`, "workshop.round"},
+		{"id beyond 2^53 - 1", `"id": 1,`, `"id": 9007199254740993,`, "workshop.id"},
+	} {
+		t.Run(tt.name, func(t *testing.T) {
+			if !strings.Contains(good, tt.old) {
+				t.Fatalf("the export has no %q", tt.old)
+			}
+			dir := t.TempDir()
+			bad := filepath.Join(dir, "bad.json")
+			check(t, os.WriteFile(bad, []byte(strings.Replace(good, tt.old, tt.new, 1)), 0o644))
+			fresh := filepath.Join(dir, "fresh.db")
+			code, out, errs := run("import", "--db", fresh, "--in", bad)
+			if code != exitBadInput || out != "" || strings.Count(errs, "\n") != 1 || !strings.Contains(errs, ": "+tt.path+": ") {
+				t.Errorf("exit %d, stdout %q, stderr %q; want 2 and one line naming %s", code, out, errs, tt.path)
+			}
+			if strings.ContainsAny(errs, "\x00\x07\x1b") {
+				t.Errorf("the message carries a control character: %q", errs)
+			}
+			if entries, _ := os.ReadDir(dir); len(entries) != 1 { // bad.json alone
+				t.Errorf("a refused import left files: %v", entries)
+			}
+			if code, _, _ := run("import", "--db", existing, "--in", bad); code != exitBadInput {
+				t.Errorf("into an existing database: exit %d, want 2", code)
+			}
+			db, err := store.Open(existing)
+			check(t, err)
+			defer db.Close()
+			if ws, _ := db.Workshops(context.Background()); len(ws) != 1 {
+				t.Errorf("%d workshops after refused imports, want the 1 imported before", len(ws))
+			}
+		})
 	}
 }

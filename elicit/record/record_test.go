@@ -1,4 +1,4 @@
-package elicit
+package record
 
 import (
 	"bytes"
@@ -11,65 +11,18 @@ import (
 	"testing"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
 	"github.com/santhosh-tekuri/jsonschema/v6"
 )
 
-var t0 = time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC)
-
-// inventedSource is an invented workshop on a pump seal failure share:
-// three experts, a quantile question with two rounds, a hidden
-// calibration question, custom weights and two agreed priors.
-func inventedSource() RecordSource {
-	truth := 0.3
-	w := Workshop{ID: 7, Title: "Pump seals (invented)", Purpose: "prior for a failure share",
-		Decision: "spare stock", Notes: "=not a formula", Round: 2, Open: true, Invented: true, Created: t0}
-	qs := []Question{
-		{ID: 11, WorkshopID: 7, Position: 1, Wording: "Share of seals failing within a year?",
-			Quantity: "failure share", Units: "proportion", Lower: 0, Upper: 1,
-			Format: FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}},
-		{ID: 12, WorkshopID: 7, Position: 2, Wording: "Share of audited pumps leaking last year?",
-			Quantity: "leak share", Lower: 0, Upper: 1, Format: FormatInterval,
-			Calibration: true, TrueValue: &truth},
-	}
-	es := []Expert{
-		{ID: 21, WorkshopID: 7, Name: "Ada", Affiliation: "Plant A", Created: t0},
-		{ID: 22, WorkshopID: 7, Name: "Bela", Created: t0},
-		{ID: 23, WorkshopID: 7, Name: "Chidi", Revoked: true, Created: t0},
-	}
-	at := func(m int) time.Time { return t0.Add(time.Duration(m) * time.Minute) }
-	rs := []Revision{
-		{ID: 31, QuestionID: 11, ExpertID: 21, Round: 1, At: at(1), Answer: Answer{Values: []float64{0.05, 0.15, 0.35}}},
-		{ID: 32, QuestionID: 11, ExpertID: 22, Round: 1, At: at(2), Answer: Answer{Values: []float64{0.1, 0.2, 0.4}}},
-		{ID: 33, QuestionID: 11, ExpertID: 23, Round: 1, At: at(3), Answer: Answer{Values: []float64{0.2, 0.5, 0.8}}},
-		{ID: 34, QuestionID: 12, ExpertID: 21, Round: 1, At: at(4),
-			Answer: Answer{Lowest: 0.1, Highest: 0.5, Best: 0.25, Confidence: 0.8}},
-		{ID: 35, QuestionID: 11, ExpertID: 21, Round: 2, At: at(5), Reason: "-after discussion",
-			Answer: Answer{Values: []float64{0.08, 0.18, 0.36}}},
-	}
-	consensus := Answer{Values: []float64{0.08, 0.18, 0.38}}
-	return RecordSource{
-		Workshop:  w,
-		Questions: qs,
-		Experts:   es,
-		Revisions: rs,
-		Weights: Weights{WorkshopID: 7, Scheme: WeightsCustom, Reason: "Ada ran the audits",
-			ByExpert: map[int64]float64{21: 3, 22: 1, 23: 1}, At: at(6)},
-		Priors: []AgreedPrior{
-			{ID: 41, QuestionID: 11, Source: PriorFromPool, Dist: Unit(Beta{Alpha: 3, Beta: 12}),
-				Rationale: "the pool", Round: 2, At: at(7)},
-			{ID: 42, QuestionID: 11, Source: PriorFromConsensus, Dist: Unit(Beta{Alpha: 4.2, Beta: 17.9}),
-				Consensus: &consensus, Rationale: "agreed in discussion", Round: 2, At: at(8)},
-		},
-		Events: []Event{
-			{ID: 51, WorkshopID: 7, Kind: EventWorkshopCreated, At: t0},
-			{ID: 52, WorkshopID: 7, QuestionID: 11, Kind: EventPriorAgreed, At: at(8), Reason: "agreed in discussion"},
-		},
-	}
-}
+var t0 = workshoptest.T0
 
 func buildInvented(t *testing.T) Record {
 	t.Helper()
-	r, err := BuildRecord(inventedSource(), t0.Add(time.Hour))
+	r, err := Build(workshoptest.PumpSeals(), t0.Add(time.Hour))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -77,9 +30,9 @@ func buildInvented(t *testing.T) Record {
 }
 
 func TestBuildRecordContent(t *testing.T) {
-	src := inventedSource()
+	src := workshoptest.PumpSeals()
 	r := buildInvented(t)
-	if r.Format != RecordFormat || r.Caution != Caution || !r.Generated.Equal(t0.Add(time.Hour)) {
+	if r.Format != Version || r.Caution != Caution || !r.Generated.Equal(t0.Add(time.Hour)) {
 		t.Fatalf("header %d %q %v", r.Format, r.Caution, r.Generated)
 	}
 	if len(r.Revisions) != len(src.Revisions) {
@@ -110,7 +63,7 @@ func TestBuildRecordContent(t *testing.T) {
 	}
 	// The pool leaves out the revoked expert and normalises 3:1.
 	p := q1.Pool
-	if p == nil || len(p.Weights) != 2 || p.Weights[0] != (ExpertWeight{21, 0.75}) || p.Weights[1] != (ExpertWeight{22, 0.25}) {
+	if p == nil || len(p.Weights) != 2 || p.Weights[0] != (workshop.ExpertWeight{ExpertID: 21, Weight: 0.75}) || p.Weights[1] != (workshop.ExpertWeight{ExpertID: 22, Weight: 0.25}) {
 		t.Fatalf("pool weights %+v, want Ada 0.75, Bela 0.25", p)
 	}
 	// A mixture's mean is the weighted mean of its components' means, so
@@ -147,10 +100,10 @@ func TestBuildRecordContent(t *testing.T) {
 		t.Fatalf("unrevealed true value exported: %v", *q2.TrueValue)
 	}
 	if src.Questions[1].TrueValue == nil {
-		t.Fatal("BuildRecord changed its source's question")
+		t.Fatal("Build changed its source's question")
 	}
 	src.Questions[1].Revealed = true
-	revealed, err := BuildRecord(src, t0)
+	revealed, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -173,7 +126,7 @@ func equalIDs(a, b []int64) bool {
 
 func compileSchema(t *testing.T) *jsonschema.Schema {
 	t.Helper()
-	sch, err := jsonschema.NewCompiler().Compile("../testdata/export.schema.json")
+	sch, err := jsonschema.NewCompiler().Compile("../../testdata/export.schema.json")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -199,8 +152,8 @@ func TestRecordMatchesSchema(t *testing.T) {
 		t.Fatalf("built record does not match testdata/export.schema.json: %v", err)
 	}
 	// A workshop with nothing in it yet is a valid record too.
-	empty, err := BuildRecord(RecordSource{Workshop: inventedSource().Workshop,
-		Weights: Weights{WorkshopID: 7, Scheme: WeightsEqual}}, t0)
+	empty, err := Build(workshop.Snapshot{Workshop: workshoptest.PumpSeals().Workshop,
+		Weights: workshop.Weights{WorkshopID: 7, Scheme: workshop.WeightsEqual}}, t0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -248,16 +201,16 @@ func TestSchemaRejects(t *testing.T) {
 // Manual, table of distributions (dbeta(a, b)).
 func TestPriorSnippets(t *testing.T) {
 	tests := []struct {
-		d    ScaledBeta
+		d    elicit.ScaledBeta
 		want map[string]string
 	}{
-		{Unit(Beta{4.2, 17.9}), map[string]string{
+		{elicit.Unit(elicit.Beta{Alpha: 4.2, Beta: 17.9}), map[string]string{
 			"Stan": "p ~ beta(4.2, 17.9);",
 			"R":    "dbeta(p, 4.2, 17.9)",
 			"PyMC": `pm.Beta("p", alpha=4.2, beta=17.9)`,
 			"JAGS": "p ~ dbeta(4.2, 17.9)",
 		}},
-		{ScaledBeta{Beta: Beta{2, 3.123456789}, Lower: 10, Upper: 30}, map[string]string{
+		{elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 2, Beta: 3.123456789}, Lower: 10, Upper: 30}, map[string]string{
 			"Stan": "p_unit ~ beta(2, 3.12346);  // p = 10 + 20 * p_unit",
 			"R":    "dbeta(p_unit, 2, 3.12346)  # p = 10 + 20 * p_unit",
 			"PyMC": `pm.Beta("p_unit", alpha=2, beta=3.12346)  # p = 10 + 20 * p_unit`,
@@ -325,7 +278,7 @@ func TestForQuestion(t *testing.T) {
 	if len(one.Questions) != 1 || len(one.Revisions) != 1 || one.Revisions[0].ID != 34 || len(one.Events) != 1 {
 		t.Fatalf("narrowed record: %d questions, %d revisions, %d events", len(one.Questions), len(one.Revisions), len(one.Events))
 	}
-	if _, err := r.ForQuestion(99); !errors.Is(err, ErrNotFound) {
+	if _, err := r.ForQuestion(99); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("missing question: %v", err)
 	}
 }
@@ -338,39 +291,39 @@ func TestValidateRecord(t *testing.T) {
 		name   string
 		mutate func(r *Record)
 		field  string
-		rule   Rule
+		rule   elicit.Rule
 	}{
-		{"format", func(r *Record) { r.Format = 2 }, "parley_record", RuleUnknown},
-		{"title", func(r *Record) { r.Workshop.Title = " " }, "workshop.title", RuleRequired},
-		{"long notes", func(r *Record) { r.Workshop.Notes = strings.Repeat("x", maxText+1) }, "workshop.notes", RuleTooLong},
-		{"round", func(r *Record) { r.Workshop.Round = 0 }, "workshop.round", RulePositive},
-		{"expert name", func(r *Record) { r.Experts[1].Name = "" }, "experts[1].name", RuleRequired},
-		{"duplicate expert", func(r *Record) { r.Experts[1].ID = 21 }, "experts[1].id", RuleUnknown},
-		{"question bounds", func(r *Record) { r.Questions[0].Upper = -1 }, "questions[0].lower", RuleBoundsOrder},
-		{"question probs", func(r *Record) { r.Questions[0].Probs = []float64{0.5, 0.05, 0.95} }, "questions[0].probs[1]", RuleProbIncreasing},
-		{"duplicate position", func(r *Record) { r.Questions[1].Position = 1 }, "questions[1].position", RuleUnknown},
-		{"question format", func(r *Record) { r.Questions[1].Format = "guess" }, "questions[1].format", RuleUnknown},
-		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", RuleValueInBounds},
-		{"answer values", func(r *Record) { r.Revisions[1].Answer.Values[1] = 0.01 }, "revisions[1].answer.values[1]", RuleValueIncreasing},
-		{"answer out of bounds", func(r *Record) { r.Revisions[4].Answer.Values[2] = 1.5 }, "revisions[4].answer.values[2]", RuleValueInBounds},
-		{"revision question", func(r *Record) { r.Revisions[2].QuestionID = 99 }, "revisions[2].question_id", RuleUnknown},
-		{"revision expert", func(r *Record) { r.Revisions[2].ExpertID = 99 }, "revisions[2].expert_id", RuleUnknown},
-		{"revision round", func(r *Record) { r.Revisions[0].Round = 3 }, "revisions[0].round", RuleCountRange},
-		{"revision time", func(r *Record) { r.Revisions[0].At = time.Time{} }, "revisions[0].at", RuleRequired},
-		{"weight expert", func(r *Record) { r.Weights.ByExpert[99] = 1 }, "weights.by_expert[99]", RuleUnknown},
-		{"negative weight", func(r *Record) { r.Weights.ByExpert[22] = -1 }, "weights.by_expert[22]", RuleNonNegative},
-		{"prior dist", func(r *Record) { r.Questions[0].PriorHistory[1].Dist.Alpha = 0 }, "questions[0].prior_history[1].dist.alpha", RulePositive},
-		{"prior source", func(r *Record) { r.Questions[0].PriorHistory[0].Source = "vote" }, "questions[0].prior_history[0].source", RuleUnknown},
-		{"consensus", func(r *Record) { r.Questions[0].PriorHistory[1].Consensus.Values[0] = 0.5 }, "questions[0].prior_history[1].consensus.values[1]", RuleValueIncreasing},
-		{"event kind", func(r *Record) { r.Events[0].Kind = "coffee" }, "events[0].kind", RuleUnknown},
-		{"event question", func(r *Record) { r.Events[1].QuestionID = 99 }, "events[1].question_id", RuleUnknown},
+		{"format", func(r *Record) { r.Format = 2 }, "parley_record", elicit.RuleUnknown},
+		{"title", func(r *Record) { r.Workshop.Title = " " }, "workshop.title", elicit.RuleRequired},
+		{"long notes", func(r *Record) { r.Workshop.Notes = strings.Repeat("x", input.MaxLongText+1) }, "workshop.notes", input.RuleTooLong},
+		{"round", func(r *Record) { r.Workshop.Round = 0 }, "workshop.round", elicit.RuleCountRange},
+		{"expert name", func(r *Record) { r.Experts[1].Name = "" }, "experts[1].name", elicit.RuleRequired},
+		{"duplicate expert", func(r *Record) { r.Experts[1].ID = 21 }, "experts[1].id", elicit.RuleUnknown},
+		{"question bounds", func(r *Record) { r.Questions[0].Upper = -1 }, "questions[0].lower", elicit.RuleBoundsOrder},
+		{"question probs", func(r *Record) { r.Questions[0].Probs = []float64{0.5, 0.05, 0.95} }, "questions[0].probs[1]", elicit.RuleProbIncreasing},
+		{"duplicate position", func(r *Record) { r.Questions[1].Position = 1 }, "questions[1].position", elicit.RuleUnknown},
+		{"question format", func(r *Record) { r.Questions[1].Format = "guess" }, "questions[1].format", elicit.RuleUnknown},
+		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", elicit.RuleValueInBounds},
+		{"answer values", func(r *Record) { r.Revisions[1].Answer.Values[1] = 0.01 }, "revisions[1].answer.values[1]", elicit.RuleValueIncreasing},
+		{"answer out of bounds", func(r *Record) { r.Revisions[4].Answer.Values[2] = 1.5 }, "revisions[4].answer.values[2]", elicit.RuleValueInBounds},
+		{"revision question", func(r *Record) { r.Revisions[2].QuestionID = 99 }, "revisions[2].question_id", elicit.RuleUnknown},
+		{"revision expert", func(r *Record) { r.Revisions[2].ExpertID = 99 }, "revisions[2].expert_id", elicit.RuleUnknown},
+		{"revision round", func(r *Record) { r.Revisions[0].Round = 3 }, "revisions[0].round", elicit.RuleCountRange},
+		{"revision time", func(r *Record) { r.Revisions[0].At = time.Time{} }, "revisions[0].at", elicit.RuleRequired},
+		{"weight expert", func(r *Record) { r.Weights.ByExpert[99] = 1 }, "weights.by_expert[99]", elicit.RuleUnknown},
+		{"negative weight", func(r *Record) { r.Weights.ByExpert[22] = -1 }, "weights.by_expert[22]", elicit.RuleNonNegative},
+		{"prior dist", func(r *Record) { r.Questions[0].PriorHistory[1].Dist.Alpha = 0 }, "questions[0].prior_history[1].dist.alpha", elicit.RulePositive},
+		{"prior source", func(r *Record) { r.Questions[0].PriorHistory[0].Source = "vote" }, "questions[0].prior_history[0].source", elicit.RuleUnknown},
+		{"consensus", func(r *Record) { r.Questions[0].PriorHistory[1].Consensus.Values[0] = 0.5 }, "questions[0].prior_history[1].consensus.values[1]", elicit.RuleValueIncreasing},
+		{"event kind", func(r *Record) { r.Events[0].Kind = "coffee" }, "events[0].kind", elicit.RuleUnknown},
+		{"event question", func(r *Record) { r.Events[1].QuestionID = 99 }, "events[1].question_id", elicit.RuleUnknown},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
 			r := buildInvented(t)
 			tt.mutate(&r)
 			err := r.Validate()
-			var ie *InputError
+			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != tt.field || ie.Rule != tt.rule {
 				t.Fatalf("Validate() = %v, want field %q rule %q", err, tt.field, tt.rule)
 			}
@@ -383,35 +336,35 @@ func TestParseRecord(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if _, err := ParseRecord(bytes.NewReader(good)); err != nil {
-		t.Fatalf("ParseRecord of a built record: %v", err)
+	if _, err := Parse(bytes.NewReader(good)); err != nil {
+		t.Fatalf("Parse of a built record: %v", err)
 	}
 	tests := []struct {
 		name, doc, field string
-		rule             Rule
+		rule             elicit.Rule
 	}{
-		{"not JSON", "{", "record", RuleRecordJSON},
-		{"unknown key", strings.Replace(string(good), `"caution"`, `"cautions"`, 1), "record", RuleRecordJSON},
-		{"wrong type", strings.Replace(string(good), `"parley_record":1`, `"parley_record":"1"`, 1), "parley_record", RuleRecordJSON},
-		{"trailing data", string(good) + "{}", "record", RuleRecordJSON},
+		{"not JSON", "{", "record", RuleJSON},
+		{"unknown key", strings.Replace(string(good), `"caution"`, `"cautions"`, 1), "cautions", RuleJSON},
+		{"wrong type", strings.Replace(string(good), `"parley_record":1`, `"parley_record":"1"`, 1), "parley_record", RuleJSON},
+		{"trailing data", string(good) + "{}", "record", RuleJSON},
 		{"bad answer", strings.Replace(string(good), `"values":[0.05,0.15,0.35]`, `"values":[0.05,0.15,0.15]`, 1),
-			"revisions[0].answer.values[2]", RuleValueIncreasing},
+			"revisions[0].answer.values[2]", elicit.RuleValueIncreasing},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
-			_, err := ParseRecord(strings.NewReader(tt.doc))
-			var ie *InputError
+			_, err := Parse(strings.NewReader(tt.doc))
+			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != tt.field || ie.Rule != tt.rule {
-				t.Fatalf("ParseRecord = %v, want field %q rule %q", err, tt.field, tt.rule)
+				t.Fatalf("Parse = %v, want field %q rule %q", err, tt.field, tt.rule)
 			}
 		})
 	}
 }
 
-// FuzzParseRecord: whatever arrives, ParseRecord returns a valid record
+// FuzzParseRecord: whatever arrives, Parse returns a valid record
 // or an *InputError, and never panics.
 func FuzzParseRecord(f *testing.F) {
-	r, err := BuildRecord(inventedSource(), t0)
+	r, err := Build(workshoptest.PumpSeals(), t0)
 	if err != nil {
 		f.Fatal(err)
 	}
@@ -420,15 +373,15 @@ func FuzzParseRecord(f *testing.F) {
 	f.Add([]byte(`{"parley_record":1}`))
 	f.Add([]byte(`[]`))
 	f.Fuzz(func(t *testing.T, doc []byte) {
-		rec, err := ParseRecord(bytes.NewReader(doc))
+		rec, err := Parse(bytes.NewReader(doc))
 		if err != nil {
-			var ie *InputError
+			var ie *elicit.InputError
 			if !errors.As(err, &ie) {
 				t.Fatalf("error %v is not an *InputError", err)
 			}
 			return
 		}
-		if _, err := BuildRecord(RecordSource{Workshop: rec.Workshop, Experts: rec.Experts,
+		if _, err := Build(workshop.Snapshot{Workshop: rec.Workshop, Experts: rec.Experts,
 			Weights: rec.Weights, Events: rec.Events}, t0); err != nil {
 			t.Fatalf("a valid record's workshop does not rebuild: %v", err)
 		}
@@ -437,19 +390,19 @@ func FuzzParseRecord(f *testing.F) {
 
 // The weight rule the pool, the export and the weight forms share.
 func TestWeightsOf(t *testing.T) {
-	custom := Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 3, 2: 0.5}}
+	custom := workshop.Weights{Scheme: workshop.WeightsCustom, ByExpert: map[int64]float64{1: 3, 2: 0.5}}
 	for _, tc := range []struct {
-		w    Weights
+		w    workshop.Weights
 		id   int64
 		want float64
 	}{
-		{Weights{}, 7, 1},                     // never set: equal
-		{Weights{Scheme: WeightsEqual}, 7, 1}, // equal ignores any stored map
-		{Weights{Scheme: WeightsEqual, ByExpert: map[int64]float64{7: 9}}, 7, 1},
+		{workshop.Weights{}, 7, 1},                              // never set: equal
+		{workshop.Weights{Scheme: workshop.WeightsEqual}, 7, 1}, // equal ignores any stored map
+		{workshop.Weights{Scheme: workshop.WeightsEqual, ByExpert: map[int64]float64{7: 9}}, 7, 1},
 		{custom, 1, 3},
 		{custom, 2, 0.5},
 		{custom, 3, 0}, // an expert the weights do not name is out of the pool
-		{Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{4: 0.2}}, 4, 0.2},
+		{workshop.Weights{Scheme: workshop.WeightsPerformance, ByExpert: map[int64]float64{4: 0.2}}, 4, 0.2},
 	} {
 		if got := tc.w.Of(tc.id); got != tc.want {
 			t.Errorf("%+v.Of(%d) = %v, want %v", tc.w, tc.id, got, tc.want)

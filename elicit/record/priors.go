@@ -1,4 +1,4 @@
-package elicit
+package record
 
 import (
 	"encoding/csv"
@@ -16,7 +16,7 @@ var PriorsCSVHeader = []string{
 
 // WritePriorsCSV writes one row per question with an agreed prior, in
 // the questions' order: the prior in force, with the very numbers of the
-// JSON record (RecordPrior's mean, SD and percentiles, shortest
+// JSON record (Prior's mean, SD and percentiles, shortest
 // round-trip decimals), RFC 4180 quoting (encoding/csv), and text cells
 // that a spreadsheet would read as a formula prefixed with ' as in
 // WriteCSV.

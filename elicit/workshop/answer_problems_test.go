@@ -1,8 +1,10 @@
-package elicit
+package workshop
 
 import (
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // Problems names every broken field of an answer at once, in form order;
@@ -14,7 +16,7 @@ func TestProblemsListsEveryField(t *testing.T) {
 	for _, p := range ps {
 		got = append(got, p.Field+":"+string(p.Rule))
 	}
-	want := "values[2]:" + string(RuleValueInBounds) + ",values[1]:" + string(RuleValueIncreasing)
+	want := "values[2]:" + string(elicit.RuleValueInBounds) + ",values[1]:" + string(elicit.RuleValueIncreasing)
 	if strings.Join(got, ",") != want {
 		t.Fatalf("problems %v, want %s", got, want)
 	}
@@ -32,11 +34,11 @@ func TestProblemsListsEveryField(t *testing.T) {
 	ch := Question{Wording: "w", Quantity: "q", Lower: 0, Upper: 1, Format: FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 10}
 	for _, c := range []struct {
 		counts []int
-		rule   Rule
+		rule   elicit.Rule
 	}{
 		{[]int{4, 4, 4, 0}, RuleChipsExceeded},
-		{[]int{0, 0, 0, 0}, RuleCountsNotAllZero},
-		{[]int{5, 5, 0, 0}, RuleChipsSpread},
+		{[]int{0, 0, 0, 0}, elicit.RuleCountsNotAllZero},
+		{[]int{5, 5, 0, 0}, elicit.RuleChipsSpread},
 	} {
 		ps := ch.Problems(Answer{Counts: c.counts})
 		if len(ps) != 1 || ps[0].Rule != c.rule || ps[0].Field != "counts" {

@@ -1,9 +1,10 @@
-package elicit
+package workshop
 
 import (
 	"errors"
-	"slices"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 func TestCheckRoundChange(t *testing.T) {
@@ -31,11 +32,26 @@ func TestCheckRoundChange(t *testing.T) {
 				}
 				return
 			}
-			var ie *InputError
+			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != "round" || ie.Rule != RuleRoundSequence {
 				t.Fatalf("got %v, want an InputError on round breaking %q", err, RuleRoundSequence)
 			}
 		})
+	}
+}
+
+// No round opens past MaxRounds, so a workshop's round never nears
+// overflow and every workshop exports a record its import takes.
+func TestRoundsStopAtMaxRounds(t *testing.T) {
+	if err := (Workshop{Round: MaxRounds - 1}).CheckRoundChange(MaxRounds, true); err != nil {
+		t.Fatalf("opening round %d: %v", MaxRounds, err)
+	}
+	var ie *elicit.InputError
+	if err := (Workshop{Round: MaxRounds}).CheckRoundChange(MaxRounds+1, true); !errors.As(err, &ie) || ie.Field != "round" || ie.Rule != elicit.RuleCountRange {
+		t.Fatalf("opening round %d: %v, want %q", MaxRounds+1, err, elicit.RuleCountRange)
+	}
+	if err := (Workshop{Round: MaxRounds, Open: true}).CheckRoundChange(MaxRounds, false); err != nil {
+		t.Fatalf("closing the last round: %v", err)
 	}
 }
 
@@ -49,31 +65,6 @@ func TestFeedbackRound(t *testing.T) {
 	}{{1, true, 0}, {1, false, 0}, {2, true, 1}, {2, false, 1}, {3, true, 2}} {
 		if got := (Workshop{Round: tt.round, Open: tt.open}).FeedbackRound(); got != tt.want {
 			t.Errorf("round %d (open %v): FeedbackRound = %d, want %d", tt.round, tt.open, got, tt.want)
-		}
-	}
-}
-
-// LatestThrough keeps each expert's highest-id revision up to a round,
-// worked by hand on an invented history of three experts.
-func TestLatestThrough(t *testing.T) {
-	revs := []Revision{
-		{ID: 1, ExpertID: 10, Round: 1},
-		{ID: 2, ExpertID: 20, Round: 1},
-		{ID: 3, ExpertID: 10, Round: 1}, // 10 revises within round 1
-		{ID: 4, ExpertID: 10, Round: 2},
-		{ID: 5, ExpertID: 30, Round: 2}, // 30 first answers in round 2
-		{ID: 6, ExpertID: 20, Round: 3},
-	}
-	ids := func(rs []Revision) []int64 {
-		var out []int64
-		for _, r := range rs {
-			out = append(out, r.ID)
-		}
-		return out
-	}
-	for through, want := range map[int][]int64{0: nil, 1: {2, 3}, 2: {2, 4, 5}, 3: {4, 5, 6}} {
-		if got := ids(LatestThrough(revs, through)); !slices.Equal(got, want) {
-			t.Errorf("LatestThrough(%d) = %v, want %v", through, got, want)
 		}
 	}
 }

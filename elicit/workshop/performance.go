@@ -1,11 +1,14 @@
-package elicit
+package workshop
 
 import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // CalibrationSet is the classical model's input drawn from one workshop's
@@ -29,7 +32,7 @@ type CalibrationSet struct {
 	// Experts are the active experts, in roster order.
 	Experts []Expert
 
-	Assessments []SeedAssessment
+	Assessments []elicit.SeedAssessment
 	// RevisionIDs[i] is the revision whose answer Assessments[i] scores.
 	RevisionIDs  []int64
 	Realisations map[string]float64
@@ -54,36 +57,22 @@ func (c CalibrationSet) Ready() bool {
 func SeedExpertKey(id int64) string   { return "e" + strconv.FormatInt(id, 10) }
 func SeedQuestionKey(id int64) string { return "q" + strconv.FormatInt(id, 10) }
 
-// latestRevisions maps (question, expert) to the expert's current
-// revision: the last one in revisions, which are oldest first.
-func latestRevisions(revisions []Revision) map[[2]int64]Revision {
-	m := make(map[[2]int64]Revision, len(revisions))
-	for _, rv := range revisions {
-		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
-	}
-	return m
-}
-
-// answersAtReveal maps (question, expert) to the answer the scores use:
-// the expert's latest revision, except that on a calibration question
-// whose true value has been revealed it is the latest saved by the
-// reveal (ID at most RevealedThrough), so that nothing saved after the
-// truth was shown can earn weight.
-func answersAtReveal(questions []Question, revisions []Revision) map[[2]int64]Revision {
+// answersAtReveal are the answers the scores use (Current): each
+// expert's latest revision, except that on a calibration question whose
+// true value has been revealed it is the latest saved by the reveal (ID
+// at most RevealedThrough), so that nothing saved after the truth was
+// shown can earn weight.
+func answersAtReveal(questions []Question, revisions []Revision) map[Key]Revision {
 	through := map[int64]int64{}
 	for _, q := range questions {
 		if q.Frozen() && q.RevealedThrough > 0 {
 			through[q.ID] = q.RevealedThrough
 		}
 	}
-	m := make(map[[2]int64]Revision, len(revisions))
-	for _, rv := range revisions {
-		if t, ok := through[rv.QuestionID]; ok && rv.ID > t {
-			continue
-		}
-		m[[2]int64{rv.QuestionID, rv.ExpertID}] = rv
-	}
-	return m
+	return Current(revisions, func(rv Revision) bool {
+		t, frozen := through[rv.QuestionID]
+		return !frozen || rv.ID <= t
+	})
 }
 
 // AnswersRule says which answers the classical model scores; the record
@@ -116,7 +105,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 			continue
 		}
 		for _, e := range set.Experts {
-			if _, ok := latest[[2]int64{q.ID, e.ID}]; ok {
+			if _, ok := latest[Key{q.ID, e.ID}]; ok {
 				set.Answered[q.ID] = append(set.Answered[q.ID], e)
 			}
 		}
@@ -124,7 +113,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		case q.Format != FormatQuantiles:
 			set.skip(q, "asked as "+formatName(q.Format)+"; the classical model scores answers given as quantiles")
 			continue
-		case !sameFloats(q.Probs, set.Probs):
+		case !slices.Equal(q.Probs, set.Probs):
 			set.skip(q, "asked at "+probsText(q.Probs)+"; the scored questions ask at "+probsText(set.Probs))
 			continue
 		case q.TrueValue == nil || (revealedOnly && !q.Revealed):
@@ -139,8 +128,8 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		set.Realisations[key] = *q.TrueValue
 		set.Bounds[key] = [2]float64{q.Lower, q.Upper}
 		for _, e := range set.Answered[q.ID] {
-			rv := latest[[2]int64{q.ID, e.ID}]
-			set.Assessments = append(set.Assessments, SeedAssessment{
+			rv := latest[Key{q.ID, e.ID}]
+			set.Assessments = append(set.Assessments, elicit.SeedAssessment{
 				Expert: SeedExpertKey(e.ID), Question: key,
 				Probs: q.Probs, Quantiles: append([]float64(nil), rv.Answer.Values...),
 			})
@@ -166,7 +155,7 @@ func commonProbs(qs []Question) []float64 {
 		}
 		n := 0
 		for _, o := range qs[i:] {
-			if o.Calibration && !o.Retired && o.Format == FormatQuantiles && sameFloats(o.Probs, q.Probs) {
+			if o.Calibration && !o.Retired && o.Format == FormatQuantiles && slices.Equal(o.Probs, q.Probs) {
 				n++
 			}
 		}
@@ -199,7 +188,7 @@ func probsText(ps []float64) string {
 }
 
 // Performance is the record's account of performance weighting by Cooke's
-// classical model (see ClassicalModel): each expert's scores and weight on
+// classical model (see elicit.ClassicalModel): each expert's scores and weight on
 // the calibration questions, the cut-off α, the performance-weighted
 // pool's scores and the robustness of the weights.
 type Performance struct {
@@ -215,10 +204,10 @@ type Performance struct {
 	// Answers states which answers were scored (AnswersRule).
 	Answers string              `json:"answers"`
 	Experts []PerformanceExpert `json:"experts"`
-	Pooled  PooledScore         `json:"pooled"`
+	Pooled  elicit.PooledScore  `json:"pooled"`
 	// Warnings say where the weighting rests on weak ground
 	// (CalibrationWarnings).
-	Warnings []Warning `json:"warnings"`
+	Warnings []elicit.Warning `json:"warnings"`
 	// InForce reports whether the workshop's current pool weights are
 	// these performance weights.
 	InForce bool `json:"in_force"`
@@ -244,14 +233,14 @@ type PerformanceExpert struct {
 	Weight      float64 `json:"weight"`
 }
 
-// ScorePerformance runs ClassicalModel on set with the cut-off alpha (nil:
+// ScorePerformance runs elicit.ClassicalModel on set with the cut-off alpha (nil:
 // optimised) and returns the scores by expert. The set must be Ready.
 func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	if !set.Ready() {
-		return Performance{}, inputErr("calibration_questions", RuleRequired,
+		return Performance{}, inputErr("calibration_questions", elicit.RuleRequired,
 			"scoring needs answered calibration questions, each with its true value")
 	}
-	sc, err := ClassicalModel(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha, Overshoot: DefaultOvershoot})
+	sc, err := elicit.ClassicalModel(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, Overshoot: elicit.DefaultOvershoot})
 	if err != nil {
 		return Performance{}, err
 	}
@@ -266,7 +255,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	for i, q := range set.Questions {
 		p.Questions[i] = q.ID
 	}
-	byKey := map[string]ExpertScore{}
+	byKey := map[string]elicit.ExpertScore{}
 	for _, es := range sc.Experts {
 		byKey[es.Expert] = es
 	}
@@ -349,6 +338,19 @@ func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 	return opt, nil
 }
 
+// Percentiles are a distribution's 5th, 50th and 95th percentiles.
+type Percentiles struct {
+	P05 float64 `json:"p05"`
+	P50 float64 `json:"p50"`
+	P95 float64 `json:"p95"`
+}
+
+// ExpertWeight is one expert's normalised weight in a pool.
+type ExpertWeight struct {
+	ExpertID int64   `json:"expert_id"`
+	Weight   float64 `json:"weight"`
+}
+
 // PoolSummary is a linear opinion pool's weights, mean, SD and 5/50/95
 // percentiles.
 type PoolSummary struct {
@@ -359,7 +361,7 @@ type PoolSummary struct {
 }
 
 // PoolComparison sets a target question's equal-weight pool beside its
-// performance-weight pool, both LinearPool over the active experts'
+// performance-weight pool, both elicit.LinearPool over the active experts'
 // current fitted Betas.
 type PoolComparison struct {
 	Question         Question     `json:"-"`
@@ -374,14 +376,14 @@ type PoolComparison struct {
 // question.
 type targetFits struct {
 	q     Question
-	dists []ScaledBeta
+	dists []elicit.ScaledBeta
 	ids   []int64
 }
 
 // fitTargets fits every active expert's current answer to each target
-// (non-calibration) question, in workshop order.
+// (non-calibration) question, in workshop order, by the members of
+// PanelState.
 func fitTargets(questions []Question, experts []Expert, revisions []Revision) []targetFits {
-	latest := latestRevisions(revisions)
 	qs := append([]Question(nil), questions...)
 	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
 	var out []targetFits
@@ -390,13 +392,9 @@ func fitTargets(questions []Question, experts []Expert, revisions []Revision) []
 			continue
 		}
 		t := targetFits{q: q}
-		for _, e := range experts {
-			rv, ok := latest[[2]int64{q.ID, e.ID}]
-			if !ok || e.Revoked {
-				continue
-			}
-			if f, err := q.Fit(rv.Answer); err == nil {
-				t.dists, t.ids = append(t.dists, f.Dist), append(t.ids, e.ID)
+		for _, m := range members(PanelInput{Question: q, Experts: experts, Revisions: revisions}) {
+			if m.Fitted() {
+				t.dists, t.ids = append(t.dists, m.Fit.Dist), append(t.ids, m.Expert.ID)
 			}
 		}
 		out = append(out, t)
@@ -436,7 +434,7 @@ func ComparePools(questions []Question, experts []Expert, revisions []Revision, 
 	return out
 }
 
-// Robustness is LeaveOneOut on a workshop's calibration questions, with
+// Robustness is elicit.LeaveOneOut on a workshop's calibration questions, with
 // the target questions' current fits as the targets, named by ID.
 type Robustness struct {
 	// Targets are the IDs of the questions watched: the target questions
@@ -476,7 +474,7 @@ type RobustnessRow struct {
 	Error    string         `json:"error,omitempty"`
 }
 
-// PerformanceRobustness runs LeaveOneOut on set with the cut-off alpha
+// PerformanceRobustness runs elicit.LeaveOneOut on set with the cut-off alpha
 // (nil: optimised again on each rerun), watching the linear pools of the
 // active experts' current fits on the target questions.
 func PerformanceRobustness(set CalibrationSet, questions []Question, experts []Expert, revisions []Revision, alpha *float64) (Robustness, error) {
@@ -490,18 +488,18 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 		k := SeedExpertKey(e.ID)
 		labels[k], ids[k] = e.Name, e.ID
 	}
-	var targets []RobustnessTarget
+	var targets []elicit.RobustnessTarget
 	for _, t := range fitTargets(questions, experts, revisions) {
 		if len(t.dists) == 0 {
 			continue
 		}
-		rt := RobustnessTarget{Question: SeedQuestionKey(t.q.ID), Fits: map[string]ScaledBeta{}}
+		rt := elicit.RobustnessTarget{Question: SeedQuestionKey(t.q.ID), Fits: map[string]elicit.ScaledBeta{}}
 		for i, id := range t.ids {
 			rt.Fits[SeedExpertKey(id)] = t.dists[i]
 		}
 		targets = append(targets, rt)
 	}
-	rep, err := LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, ModelOptions{Alpha: alpha}, targets)
+	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha}, targets)
 	if err != nil {
 		return Robustness{}, err
 	}
@@ -538,10 +536,10 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	return rb, nil
 }
 
-func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {
-	pool, err := LinearPool(dists, weights)
-	var ie *InputError
-	if errors.As(err, &ie) && ie.Rule == RuleWeightsNotAllZero {
+func summarisePool(dists []elicit.ScaledBeta, weights []float64, ids []int64) (*PoolSummary, string) {
+	pool, err := elicit.LinearPool(dists, weights)
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && ie.Rule == elicit.RuleWeightsNotAllZero {
 		return nil, "every expert who answered this question has performance weight 0"
 	}
 	if err != nil {
@@ -552,48 +550,9 @@ func summarisePool(dists []ScaledBeta, weights []float64, ids []int64) (*PoolSum
 		return nil, err.Error()
 	}
 	s := &PoolSummary{Mean: pool.Mean(), SD: pool.SD(), Percentiles: Percentiles{qs[0], qs[1], qs[2]}}
-	shares := Shares(weights)
+	shares := elicit.Shares(weights)
 	for i, id := range ids {
 		s.Weights = append(s.Weights, ExpertWeight{ExpertID: id, Weight: shares[i]})
 	}
 	return s, ""
-}
-
-// recordPerformance is the record's performance section: scored only on
-// revealed true values, with the cut-off of the weights in force. note
-// says why there is no section.
-func recordPerformance(src RecordSource) (*Performance, string) {
-	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
-	switch {
-	case len(set.Questions) == 0 && len(set.Pending) == 0:
-		if len(set.Skipped) == 0 {
-			return nil, ""
-		}
-		return nil, "no calibration question can be scored: " + skippedText(set.Skipped)
-	case len(set.Pending) > 0:
-		return nil, fmt.Sprintf("scores are shown once every calibration question's true value is revealed (%d not yet)", len(set.Pending))
-	}
-	p, err := PerformanceInForce(set, src.Weights)
-	if err != nil {
-		return nil, "the classical model could not score the panel: " + err.Error()
-	}
-	var alpha *float64
-	if p.AlphaRule == AlphaFixed {
-		alpha = &p.Alpha
-	}
-	if rb, err := PerformanceRobustness(set, src.Questions, src.Experts, src.Revisions, alpha); err == nil {
-		p.Robustness = &rb
-	}
-	return &p, ""
-}
-
-func skippedText(s []SkippedQuestion) string {
-	out := ""
-	for i, q := range s {
-		if i > 0 {
-			out += "; "
-		}
-		out += fmt.Sprintf("Q%d %s", q.Question.Position, q.Reason)
-	}
-	return out
 }

@@ -1,4 +1,4 @@
-package elicit
+package record
 
 import (
 	"bytes"
@@ -8,6 +8,9 @@ import (
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
 )
 
 // The priors CSV: the exact header, one row per question with an agreed
@@ -15,10 +18,10 @@ import (
 // round trip through text, RFC 4180 quoting of commas, quotes and line
 // breaks, and formula-looking text guarded.
 func TestWritePriorsCSV(t *testing.T) {
-	src := inventedSource()
+	src := workshoptest.PumpSeals()
 	src.Questions[0].Quantity = "=share, \"first\" year"
 	src.Priors[1].Rationale = "agreed in discussion,\nafter \"round 2\""
-	r, err := BuildRecord(src, t0.Add(time.Hour))
+	r, err := Build(src, t0.Add(time.Hour))
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -67,7 +70,7 @@ func TestWritePriorsCSV(t *testing.T) {
 		}
 	}
 	// The current prior, not the superseded one.
-	if rows[1][12] != string(PriorFromConsensus) {
+	if rows[1][12] != string(workshop.PriorFromConsensus) {
 		t.Errorf("source %q, want the current (consensus) prior", rows[1][12])
 	}
 }

@@ -1,8 +1,10 @@
-package elicit
+package workshop
 
 import (
-	"math"
 	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // AnswerFormat is how experts answer a question.
@@ -15,7 +17,7 @@ const (
 	FormatQuantiles AnswerFormat = "quantiles"
 	// FormatInterval asks for four values: lowest, highest, best estimate,
 	// and the expert's confidence that the truth lies between lowest and
-	// highest. See FourValue.
+	// highest. See elicit.FourValue.
 	FormatInterval AnswerFormat = "interval"
 	// FormatChips asks the expert to place chips in bins (trial roulette).
 	FormatChips AnswerFormat = "chips"
@@ -154,7 +156,7 @@ const (
 var Channels = []Channel{ChannelInPerson, ChannelPhone, ChannelPaperForm, ChannelMessage, ChannelFile}
 
 // RuleProvenance is the rule for who entered a revision and how.
-const RuleProvenance Rule = "a revision is entered by the expert (no channel) or by the facilitator (with one of the channels)"
+const RuleProvenance elicit.Rule = "a revision is entered by the expert (no channel) or by the facilitator (with one of the channels)"
 
 // CheckProvenance checks a revision's EnteredBy and Channel: the expert's
 // own entries carry no channel; the facilitator's carry a known one.
@@ -265,37 +267,6 @@ func (w Weights) Of(expertID int64) float64 {
 	return w.ByExpert[expertID]
 }
 
-// Shares turns unnormalised pool weights into each one's share of the
-// pool, w_i / Σ_j w_j, summing to 1. It divides by the largest weight
-// before summing, so weights near the largest float64 (four of 1e308)
-// give their true shares instead of an overflowed sum and shares of 0.
-// Every share shown or recorded (the facilitator's panel, the decision
-// log, the export) and the pool's own normalisation come from here.
-// It returns nil when a weight is negative, NaN or infinite, or no weight
-// is above zero: such weights have no shares.
-func Shares(raw []float64) []float64 {
-	var largest float64
-	for _, x := range raw {
-		if math.IsNaN(x) || math.IsInf(x, 0) || x < 0 {
-			return nil
-		}
-		largest = math.Max(largest, x)
-	}
-	if largest == 0 {
-		return nil
-	}
-	out := make([]float64, len(raw))
-	var sum float64
-	for i, x := range raw {
-		out[i] = x / largest
-		sum += out[i]
-	}
-	for i := range out {
-		out[i] /= sum
-	}
-	return out
-}
-
 // PriorSource says how an agreed prior was reached.
 type PriorSource string
 
@@ -310,13 +281,13 @@ const (
 // AgreedPrior is the prior the panel settled on for a question. Every
 // agreement is kept; the latest is the current one.
 type AgreedPrior struct {
-	ID         int64       `json:"id"`
-	QuestionID int64       `json:"question_id"`
-	Source     PriorSource `json:"source"`
-	Dist       ScaledBeta  `json:"dist"`
-	Consensus  *Answer     `json:"consensus,omitempty"`
-	Rationale  string      `json:"rationale"`
-	Round      int         `json:"round"`
+	ID         int64             `json:"id"`
+	QuestionID int64             `json:"question_id"`
+	Source     PriorSource       `json:"source"`
+	Dist       elicit.ScaledBeta `json:"dist"`
+	Consensus  *Answer           `json:"consensus,omitempty"`
+	Rationale  string            `json:"rationale"`
+	Round      int               `json:"round"`
 	// RoundOpen is set when the prior was agreed while its round was
 	// still open, after the facilitator confirmed it: answers could still
 	// change after the agreement.
@@ -329,6 +300,21 @@ type AgreedPrior struct {
 	At          time.Time `json:"at"`
 }
 
+// Snapshot is everything stored about one workshop, read at one moment:
+// what its record is built from and what its pages are drawn from.
+type Snapshot struct {
+	Workshop  Workshop
+	Questions []Question
+	Experts   []Expert
+	Revisions []Revision // oldest first
+	Weights   Weights    // the current weights
+	// WeightHistory is every weight set applied, oldest first; the last
+	// is Weights.
+	WeightHistory []Weights
+	Priors        []AgreedPrior // oldest first
+	Events        []Event       // oldest first
+}
+
 // DeletedWorkshop is what is left of a workshop deleted before anyone
 // answered: its title, when and why. A workshop with answers or agreed
 // priors is archived instead, never deleted.
@@ -337,4 +323,44 @@ type DeletedWorkshop struct {
 	Title      string    `json:"title"`
 	Reason     string    `json:"reason"`
 	At         time.Time `json:"at"`
+}
+
+// CheckText checks the workshop's text by the rules of the forms it is
+// typed in (input.CheckText): a title of at most input.MaxShortText
+// characters, a purpose, decision and notes of at most input.MaxLongText.
+// Errors name the field by its JSON key.
+func (w Workshop) CheckText() error {
+	return checkTexts([]textField{
+		{"title", w.Title, input.MaxShortText, true},
+		{"purpose", w.Purpose, input.MaxLongText, false},
+		{"decision", w.Decision, input.MaxLongText, false},
+		{"notes", w.Notes, input.MaxLongText, false},
+	})
+}
+
+// CheckText checks the expert's text by the rules of the roster form: a
+// name and an affiliation of at most input.MaxShortText characters,
+// expertise of at most input.MaxLongText.
+func (e Expert) CheckText() error {
+	return checkTexts([]textField{
+		{"name", e.Name, input.MaxShortText, true},
+		{"affiliation", e.Affiliation, input.MaxShortText, false},
+		{"expertise", e.Expertise, input.MaxLongText, false},
+	})
+}
+
+// textField is one text field with its limit in characters.
+type textField struct {
+	name, value string
+	max         int
+	required    bool
+}
+
+func checkTexts(fs []textField) error {
+	for _, f := range fs {
+		if err := input.CheckText(f.name, f.value, f.max, f.required); err != nil {
+			return err
+		}
+	}
+	return nil
 }

@@ -1,16 +1,18 @@
-package elicit
+package workshop
 
 import (
 	"slices"
 	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // Rules for corrections made after a workshop has started.
 const (
-	RuleLockedAfterAnswers Rule = "cannot change once experts have answered the question"
-	RuleNothingChanged     Rule = "nothing to change"
-	RuleArchived           Rule = "the workshop is archived"
-	RuleHasAnswers         Rule = "the workshop has answers or agreed priors: archive it instead"
+	RuleLockedAfterAnswers elicit.Rule = "cannot change once experts have answered the question"
+	RuleNothingChanged     elicit.Rule = "nothing to change"
+	RuleArchived           elicit.Rule = "the workshop is archived"
+	RuleHasAnswers         elicit.Rule = "the workshop has answers or agreed priors: archive it instead"
 )
 
 // CheckCorrection reports whether q may become next. Before any expert

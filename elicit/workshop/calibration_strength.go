@@ -1,22 +1,24 @@
-package elicit
+package workshop
 
 import (
 	"fmt"
 	"strconv"
 	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // The warnings about how much a performance weighting can be trusted.
 const (
 	// WarnFewCalibrationQuestions: fewer than RecommendedCalibrationQuestions
 	// calibration questions were scored.
-	WarnFewCalibrationQuestions WarningCode = "few_calibration_questions"
+	WarnFewCalibrationQuestions elicit.WarningCode = "few_calibration_questions"
 	// WarnOneExpertDominates: one expert has more than DominantWeight of
 	// the weight.
-	WarnOneExpertDominates WarningCode = "one_expert_dominates"
+	WarnOneExpertDominates elicit.WarningCode = "one_expert_dominates"
 	// WarnUnequalCalibrationAnswers: the experts answered different
 	// numbers of the scored calibration questions.
-	WarnUnequalCalibrationAnswers WarningCode = "unequal_calibration_answers"
+	WarnUnequalCalibrationAnswers elicit.WarningCode = "unequal_calibration_answers"
 )
 
 // RecommendedCalibrationQuestions is about how many calibration questions
@@ -41,10 +43,10 @@ const DominantWeight = 0.9
 // are the active experts with their normalised weights, in roster order.
 // It is the one place these rules live: the calibration page, the
 // question panel, the report and the record all show its result.
-func CalibrationWarnings(scored int, experts []PerformanceExpert) []Warning {
-	out := []Warning{}
+func CalibrationWarnings(scored int, experts []PerformanceExpert) []elicit.Warning {
+	out := []elicit.Warning{}
 	if scored < RecommendedCalibrationQuestions {
-		out = append(out, Warning{Code: WarnFewCalibrationQuestions, Message: fmt.Sprintf(
+		out = append(out, elicit.Warning{Code: WarnFewCalibrationQuestions, Message: fmt.Sprintf(
 			"Only %d calibration %s scored; Cooke & Goossens (2008) recommend about %d. "+
 				"With so few, a calibration score tells a well-calibrated expert from a lucky one only weakly, "+
 				"and one question can move the weights a long way.",
@@ -52,7 +54,7 @@ func CalibrationWarnings(scored int, experts []PerformanceExpert) []Warning {
 	}
 	for _, e := range experts {
 		if e.Weight > DominantWeight {
-			out = append(out, Warning{Code: WarnOneExpertDominates, Message: fmt.Sprintf(
+			out = append(out, elicit.Warning{Code: WarnOneExpertDominates, Message: fmt.Sprintf(
 				"%s has %s of the weight (more than %s): the performance-weighted pool is in effect %s's judgement alone, "+
 					"and the other experts' answers barely count.",
 				e.Name, percent(e.Weight), percent(DominantWeight), e.Name)})
@@ -66,7 +68,7 @@ func CalibrationWarnings(scored int, experts []PerformanceExpert) []Warning {
 			unequal = unequal || e.Answered != experts[0].Answered
 		}
 		if unequal {
-			out = append(out, Warning{Code: WarnUnequalCalibrationAnswers, Message: fmt.Sprintf(
+			out = append(out, elicit.Warning{Code: WarnUnequalCalibrationAnswers, Message: fmt.Sprintf(
 				"The experts answered different numbers of the %d scored calibration questions (%s). "+
 					"A score on fewer questions is weaker evidence, so the experts are not judged on equal terms.",
 				scored, strings.Join(counts, ", "))})

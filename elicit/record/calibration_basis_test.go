@@ -1,42 +1,47 @@
-package elicit
+package record
 
 import (
 	"errors"
 	"math"
+	"slices"
 	"strings"
 	"testing"
 	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
 )
 
 // basisWorkshop is the invented valve workshop with performance weights
 // applied (set 1, with their basis), a prior agreed from the pool under
 // them, then custom weights as typed (set 2, in force).
-func basisWorkshop(t *testing.T, revealed bool) (RecordSource, WeightBasis) {
+func basisWorkshop(t *testing.T, revealed bool) (workshop.Snapshot, workshop.WeightBasis) {
 	t.Helper()
-	src := seedWorkshop(revealed)
-	set := NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
-	p, err := ScorePerformance(set, nil)
+	src := workshoptest.ValveWear(revealed)
+	set := workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	p, err := workshop.ScorePerformance(set, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
-	b := NewWeightBasis(set, p)
-	perf := Weights{ID: 1, WorkshopID: 9, Scheme: WeightsPerformance, ByExpert: p.WeightsByExpert(), Reason: "scored", At: t0, Basis: &b}
-	custom := Weights{ID: 2, WorkshopID: 9, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 0.5, 3: 1}, Reason: "as typed", At: t0.Add(time.Minute)}
-	src.WeightHistory = []Weights{perf, custom}
+	b := workshop.NewWeightBasis(set, p)
+	perf := workshop.Weights{ID: 1, WorkshopID: 9, Scheme: workshop.WeightsPerformance, ByExpert: p.WeightsByExpert(), Reason: "scored", At: t0, Basis: &b}
+	custom := workshop.Weights{ID: 2, WorkshopID: 9, Scheme: workshop.WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 0.5, 3: 1}, Reason: "as typed", At: t0.Add(time.Minute)}
+	src.WeightHistory = []workshop.Weights{perf, custom}
 	src.Weights = custom
-	src.Priors = []AgreedPrior{{ID: 1, QuestionID: 101, Source: PriorFromPool, Dist: Unit(Beta{Alpha: 3, Beta: 9}), Rationale: "pool", Round: 1, WeightSetID: 1, At: t0}}
+	src.Priors = []workshop.AgreedPrior{{ID: 1, QuestionID: 101, Source: workshop.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 9}), Rationale: "pool", Round: 1, WeightSetID: 1, At: t0}}
 	return src, b
 }
 
 func TestWeightBasisReproducesItsWeights(t *testing.T) {
 	src, b := basisWorkshop(t, true)
-	if b.Method != BasisClassicalModel || b.Overshoot != DefaultOvershoot || len(b.Questions) != 3 || len(b.CalibrationAnswers) != 9 {
+	if b.Method != workshop.BasisClassicalModel || b.Overshoot != elicit.DefaultOvershoot || len(b.Questions) != 3 || len(b.CalibrationAnswers) != 9 {
 		t.Fatalf("basis %+v", b)
 	}
 	// Each stored answer is the latest revision the scores used: A's
 	// second answer to seed 1 (revision 2), not the first.
 	for _, a := range b.CalibrationAnswers {
-		if a.ExpertID == 1 && a.QuestionID == 102 && (a.RevisionID != 2 || !sameFloats(a.Quantiles, []float64{0.10, 0.25, 0.50})) {
+		if a.ExpertID == 1 && a.QuestionID == 102 && (a.RevisionID != 2 || !slices.Equal(a.Quantiles, []float64{0.10, 0.25, 0.50})) {
 			t.Errorf("A's answer to seed 1: %+v", a)
 		}
 		if a.ExpertID == 4 {
@@ -47,7 +52,7 @@ func TestWeightBasisReproducesItsWeights(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	sc, err := ClassicalModel(as, real, bounds, opt)
+	sc, err := elicit.ClassicalModel(as, real, bounds, opt)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -55,7 +60,7 @@ func TestWeightBasisReproducesItsWeights(t *testing.T) {
 	for _, e := range sc.Experts {
 		var id int64
 		for _, x := range b.Experts {
-			if SeedExpertKey(x.ExpertID) == e.Expert {
+			if workshop.SeedExpertKey(x.ExpertID) == e.Expert {
 				id = x.ExpertID
 			}
 		}
@@ -66,7 +71,7 @@ func TestWeightBasisReproducesItsWeights(t *testing.T) {
 	if sc.Alpha != b.Alpha {
 		t.Errorf("cut-off %v, basis %v", sc.Alpha, b.Alpha)
 	}
-	rec, err := BuildRecord(src, t0)
+	rec, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -80,7 +85,7 @@ func TestWeightBasisReproducesItsWeights(t *testing.T) {
 
 func TestRecordWithholdsUnrevealedTruthsInABasis(t *testing.T) {
 	src, _ := basisWorkshop(t, false)
-	rec, err := BuildRecord(src, t0)
+	rec, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -145,19 +150,19 @@ func TestValidateRefusesABrokenWeightHistory(t *testing.T) {
 	}
 	for _, c := range cases {
 		src, _ := basisWorkshop(t, true)
-		rec, err := BuildRecord(src, t0)
+		rec, err := Build(src, t0)
 		if err != nil {
 			t.Fatal(err)
 		}
 		// Edit deep copies, so one case cannot leak into the next.
 		b := *rec.WeightHistory[0].Basis
-		b.CalibrationAnswers = append([]BasisAnswer(nil), b.CalibrationAnswers...)
-		b.Questions = append([]BasisQuestion(nil), b.Questions...)
-		b.Experts = append([]PerformanceExpert(nil), b.Experts...)
+		b.CalibrationAnswers = append([]workshop.BasisAnswer(nil), b.CalibrationAnswers...)
+		b.Questions = append([]workshop.BasisQuestion(nil), b.Questions...)
+		b.Experts = append([]workshop.PerformanceExpert(nil), b.Experts...)
 		rec.WeightHistory[0].Basis = &b
 		c.edit(&rec)
 		err = rec.Validate()
-		var ie *InputError
+		var ie *elicit.InputError
 		if !errors.As(err, &ie) || ie.Field != c.field {
 			t.Errorf("%s: got %v, want an error at %s", c.name, err, c.field)
 		}
@@ -165,13 +170,13 @@ func TestValidateRefusesABrokenWeightHistory(t *testing.T) {
 	// A basis whose true value the record does not reveal is refused: the
 	// record never carries a hidden truth.
 	src, _ := basisWorkshop(t, false)
-	rec, err := BuildRecord(src, t0)
+	rec, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)
 	}
 	tv := 0.3
 	rec.WeightHistory[0].Basis.Questions[0].TrueValue = &tv
-	var ie *InputError
+	var ie *elicit.InputError
 	if err := rec.Validate(); !errors.As(err, &ie) || !strings.HasSuffix(ie.Field, "calibration_questions[0].true_value") {
 		t.Errorf("hidden truth in a basis: %v", err)
 	}
@@ -182,7 +187,7 @@ func TestValidateRefusesABrokenWeightHistory(t *testing.T) {
 // answers their basis scored, and is a valid record on its own.
 func TestForQuestionKeepsTheEvidenceBehindItsWeights(t *testing.T) {
 	src, b := basisWorkshop(t, true)
-	rec, err := BuildRecord(src, t0)
+	rec, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)
 	}

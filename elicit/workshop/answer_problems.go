@@ -1,49 +1,51 @@
-package elicit
+package workshop
 
 import (
 	"fmt"
 	"math"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // RuleConfidenceForm is the rule for the four-value format's confidence,
 // which is a probability strictly between 0 and 1.
-const RuleConfidenceForm = RuleProbOpen
+const RuleConfidenceForm = elicit.RuleProbOpen
 
 // Problems lists every rule an answer breaks for question q, field by
 // field, in the order of the question's form: each value finite and
 // strictly inside the bounds, values strictly increasing (a value is
 // named when it is not above the value before it), the confidence
 // strictly between 0 and 1, chips whole, none negative, not more than
-// the question allows, in at least MinChipBins bins. It is what a form
+// the question allows, in at least elicit.MinChipBins bins. It is what a form
 // shows beside every field at once; Question.Fit refuses the first of
 // them, then applies the rules only the fit can check. A question that
 // breaks its own rules is reported as that one problem.
-func (q Question) Problems(a Answer) []*InputError {
+func (q Question) Problems(a Answer) []*elicit.InputError {
 	if err := q.Validate(); err != nil {
-		if ie, ok := err.(*InputError); ok {
-			return []*InputError{ie}
+		if ie, ok := err.(*elicit.InputError); ok {
+			return []*elicit.InputError{ie}
 		}
-		return []*InputError{{Field: "question", Rule: RuleUnknown, Detail: err.Error()}}
+		return []*elicit.InputError{{Field: "question", Rule: elicit.RuleUnknown, Detail: err.Error()}}
 	}
-	var out []*InputError
-	add := func(field string, rule Rule, format string, args ...any) {
+	var out []*elicit.InputError
+	add := func(field string, rule elicit.Rule, format string, args ...any) {
 		out = append(out, inputErr(field, rule, format, args...))
 	}
 	// inBounds checks one value, reporting whether it may be compared.
 	inBounds := func(field string, x float64) bool {
 		switch {
 		case math.IsNaN(x) || math.IsInf(x, 0):
-			add(field, RuleFinite, "got %v", x)
+			add(field, elicit.RuleFinite, "got %v", x)
 			return false
 		case !(x > q.Lower && x < q.Upper):
-			add(field, RuleValueInBounds, "%v not inside (%v, %v)", x, q.Lower, q.Upper)
+			add(field, elicit.RuleValueInBounds, "%v not inside (%v, %v)", x, q.Lower, q.Upper)
 		}
 		return true
 	}
 	switch q.Format {
 	case FormatQuantiles:
 		if len(a.Values) != len(q.Probs) {
-			add("values", RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+			add("values", elicit.RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
 			return out
 		}
 		ok := make([]bool, len(a.Values))
@@ -52,7 +54,7 @@ func (q Question) Problems(a Answer) []*InputError {
 		}
 		for i := 1; i < len(a.Values); i++ {
 			if ok[i] && ok[i-1] && !(a.Values[i] > a.Values[i-1]) {
-				add(fmt.Sprintf("values[%d]", i), RuleValueIncreasing, "%v after %v", a.Values[i], a.Values[i-1])
+				add(fmt.Sprintf("values[%d]", i), elicit.RuleValueIncreasing, "%v after %v", a.Values[i], a.Values[i-1])
 			}
 		}
 	case FormatInterval:
@@ -60,30 +62,30 @@ func (q Question) Problems(a Answer) []*InputError {
 		okBest := inBounds("best", a.Best)
 		okHi := inBounds("highest", a.Highest)
 		if okLo && okBest && !(a.Best > a.Lowest) {
-			add("best", RuleValueIncreasing, "best %v not above lowest %v", a.Best, a.Lowest)
+			add("best", elicit.RuleValueIncreasing, "best %v not above lowest %v", a.Best, a.Lowest)
 		}
 		if okBest && okHi && !(a.Highest > a.Best) {
-			add("highest", RuleValueIncreasing, "highest %v not above best %v", a.Highest, a.Best)
+			add("highest", elicit.RuleValueIncreasing, "highest %v not above best %v", a.Highest, a.Best)
 		} else if okLo && okHi && !okBest && !(a.Highest > a.Lowest) {
-			add("highest", RuleValueIncreasing, "highest %v not above lowest %v", a.Highest, a.Lowest)
+			add("highest", elicit.RuleValueIncreasing, "highest %v not above lowest %v", a.Highest, a.Lowest)
 		}
 		switch c := a.Confidence; {
 		case math.IsNaN(c) || math.IsInf(c, 0):
-			add("confidence", RuleFinite, "got %v", c)
+			add("confidence", elicit.RuleFinite, "got %v", c)
 		case !(c > 0 && c < 1):
 			add("confidence", RuleConfidenceForm, "got %v", c)
 		}
 	case FormatChips:
 		bins := len(q.BinEdges) - 1
 		if len(a.Counts) != bins {
-			add("counts", RuleLengthMatch, "%d bins, %d counts", bins, len(a.Counts))
+			add("counts", elicit.RuleLengthMatch, "%d bins, %d counts", bins, len(a.Counts))
 			return out
 		}
 		total, used := 0, 0
 		for i, c := range a.Counts {
 			switch {
 			case c < 0:
-				add(fmt.Sprintf("counts[%d]", i), RuleNonNegative, "got %d", c)
+				add(fmt.Sprintf("counts[%d]", i), elicit.RuleNonNegative, "got %d", c)
 			case c > q.Chips:
 				add(fmt.Sprintf("counts[%d]", i), RuleChipsExceeded, "%d in one bin, %d in all", c, q.Chips)
 			default:
@@ -97,9 +99,9 @@ func (q Question) Problems(a Answer) []*InputError {
 		case total > q.Chips:
 			add("counts", RuleChipsExceeded, "%d placed, %d allowed", total, q.Chips)
 		case total == 0 && len(out) == 0:
-			add("counts", RuleCountsNotAllZero, "")
-		case used < MinChipBins && len(out) == 0:
-			add("counts", RuleChipsSpread, "chips in %d bins", used)
+			add("counts", elicit.RuleCountsNotAllZero, "")
+		case used < elicit.MinChipBins && len(out) == 0:
+			add("counts", elicit.RuleChipsSpread, "chips in %d bins", used)
 		}
 	}
 	return out

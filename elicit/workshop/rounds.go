@@ -1,16 +1,26 @@
-package elicit
+package workshop
 
-import "sort"
+import (
+	"github.com/parley-elicit/parley/elicit"
+)
 
 // RuleRoundSequence is the rule for Delphi rounds: the open round is
 // closed before the next one, numbered one higher, is opened.
-const RuleRoundSequence Rule = "rounds run in sequence: close the open round, then open the next"
+const RuleRoundSequence elicit.Rule = "rounds run in sequence: close the open round, then open the next"
+
+// MaxRounds is the most Delphi rounds a workshop may run. Delphi studies
+// settle in two to four rounds (common practice, no source); the limit
+// keeps a round number far from overflow, in the store and in a record.
+const MaxRounds = 100
 
 // CheckRoundChange reports whether w may move to round with the given open
 // state: closing needs the current round open and round equal to it;
-// opening needs the current round closed and round one past it.
+// opening needs the current round closed, round one past it and at most
+// MaxRounds.
 func (w Workshop) CheckRoundChange(round int, open bool) error {
 	switch {
+	case open && w.Round >= MaxRounds:
+		return inputErr("round", elicit.RuleCountRange, "a workshop runs at most %d rounds", MaxRounds)
 	case open && w.Archived:
 		return inputErr("round", RuleArchived, "bring the workshop back before opening a round")
 	case open && w.Open:
@@ -36,26 +46,4 @@ func (w Workshop) FeedbackRound() int {
 		return 0
 	}
 	return w.Round - 1
-}
-
-// LatestThrough picks, from revisions of one question, each expert's
-// latest revision saved in round `through` or before, in order of
-// revision id. Revisions are append-only, so the latest is the one with
-// the highest id.
-func LatestThrough(revs []Revision, through int) []Revision {
-	latest := map[int64]Revision{}
-	for _, r := range revs {
-		if r.Round > through {
-			continue
-		}
-		if cur, ok := latest[r.ExpertID]; !ok || r.ID > cur.ID {
-			latest[r.ExpertID] = r
-		}
-	}
-	out := make([]Revision, 0, len(latest))
-	for _, r := range latest {
-		out = append(out, r)
-	}
-	sort.Slice(out, func(i, j int) bool { return out[i].ID < out[j].ID })
-	return out
 }

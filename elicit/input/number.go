@@ -1,0 +1,88 @@
+package input
+
+import (
+	"fmt"
+	"math"
+	"regexp"
+	"strconv"
+	"strings"
+	"unicode"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// RuleNumberSyntax is broken by anything typed as a number that is not a
+// plain decimal number.
+const RuleNumberSyntax elicit.Rule = "must be a plain decimal number such as 0.25 or 2.5e-3 (a point for decimals, no thousands separators)"
+
+// Limits on typed numbers.
+const (
+	MaxNumberLen = 64 // characters of one number, after trimming spaces
+	MaxWholeLen  = 12 // digits of one whole number
+	MaxListItems = 40 // numbers in one list
+)
+
+// plainNumber is the only number syntax accepted: optional sign, decimal
+// digits with at most one point, optional exponent. It excludes NaN, Inf,
+// hex, underscores, thousands separators and a decimal comma, all of which
+// strconv.ParseFloat would take or half-take.
+var plainNumber = regexp.MustCompile(`^[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?$`)
+
+// Number parses raw as a finite number for the named field. Surrounding
+// spaces are ignored; anything else that is not a plain decimal number is
+// an *elicit.InputError naming the field: elicit.RuleRequired when empty,
+// RuleNumberSyntax for bad syntax or more than MaxNumberLen characters,
+// elicit.RuleFinite beyond the float64 range (1e400).
+func Number(field, raw string) (float64, error) {
+	s := strings.TrimSpace(raw)
+	if s == "" {
+		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
+	}
+	if len(s) > MaxNumberLen || !plainNumber.MatchString(s) {
+		return 0, &elicit.InputError{Field: field, Rule: RuleNumberSyntax, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
+		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
+	return v, nil
+}
+
+// Whole parses raw as a whole number in [min, max]: digits only (no sign,
+// point or exponent), at most MaxWholeLen of them.
+func Whole(field, raw string, min, max int) (int, error) {
+	s := strings.TrimSpace(raw)
+	if s == "" {
+		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
+	}
+	if len(s) > MaxWholeLen || strings.TrimLeft(s, "0123456789") != "" {
+		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleInteger, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
+	n, err := strconv.Atoi(s)
+	if err != nil || n < min || n > max {
+		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, Clip(s, 24))}
+	}
+	return n, nil
+}
+
+// Numbers parses a list of numbers separated by spaces, commas or
+// semicolons, each by Number's rule; at most MaxListItems. Item i is
+// reported as field[i].
+func Numbers(field, raw string) ([]float64, error) {
+	items := strings.FieldsFunc(raw, func(r rune) bool { return r == ',' || r == ';' || unicode.IsSpace(r) })
+	if len(items) == 0 {
+		return nil, &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
+	}
+	if len(items) > MaxListItems {
+		return nil, &elicit.InputError{Field: field, Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d numbers, got %d", MaxListItems, len(items))}
+	}
+	out := make([]float64, len(items))
+	for i, it := range items {
+		v, err := Number(fmt.Sprintf("%s[%d]", field, i), it)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = v
+	}
+	return out, nil
+}

@@ -1,0 +1,80 @@
+package input
+
+import (
+	"fmt"
+	"strings"
+	"unicode"
+	"unicode/utf8"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Rules of text.
+const (
+	RuleTextValid elicit.Rule = "must be plain text (no control characters)"
+	RuleTooLong   elicit.Rule = "is too long"
+)
+
+// Length limits of text, in characters (Unicode code points), whichever
+// way the text arrives: a form, the command line or an imported record.
+// DEVELOPERS.md's input-rule table and the README state them.
+const (
+	// MaxShortText bounds one line of text: a workshop's title, a
+	// question's quantity and units, an expert's name and affiliation.
+	MaxShortText = 200
+	// MaxLongText bounds text that may run to paragraphs: a workshop's
+	// purpose, decision and notes, a question's wording, an expert's
+	// expertise, and every reason and rationale.
+	MaxLongText = 4000
+	// MaxDetail bounds an event's detail, which Parley writes itself as
+	// JSON (a correction keeps the fields before and after, each escaped).
+	MaxDetail = 1 << 20
+)
+
+// Text trims the spaces around raw and checks the rest by CheckText: the
+// rule of every text field of a form.
+func Text(field, raw string, max int, required bool) (string, error) {
+	s := strings.TrimSpace(raw)
+	return s, CheckText(field, s, max, required)
+}
+
+// CheckText checks text as it is stored: valid UTF-8 with no control
+// characters but newline, carriage return and tab (CheckChars); not
+// blank when required (elicit.RuleRequired); at most max characters
+// (RuleTooLong). Errors are *elicit.InputError naming field.
+func CheckText(field, s string, max int, required bool) error {
+	if err := CheckChars(field, s); err != nil {
+		return err
+	}
+	if required && strings.TrimSpace(s) == "" {
+		return &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
+	}
+	if n := utf8.RuneCountInString(s); n > max {
+		return &elicit.InputError{Field: field, Rule: RuleTooLong, Detail: fmt.Sprintf("at most %d characters, got %d", max, n)}
+	}
+	return nil
+}
+
+// CheckChars checks that s is valid UTF-8 without control characters
+// (Unicode category Cc: NUL, BEL, ESC, DEL, the C1 set, ...) other than
+// newline, carriage return and tab.
+func CheckChars(field, s string) error {
+	if !utf8.ValidString(s) {
+		return &elicit.InputError{Field: field, Rule: RuleTextValid, Detail: "not UTF-8"}
+	}
+	for _, r := range s {
+		if unicode.IsControl(r) && r != '\n' && r != '\r' && r != '\t' {
+			return &elicit.InputError{Field: field, Rule: RuleTextValid, Detail: fmt.Sprintf("character %U", r)}
+		}
+	}
+	return nil
+}
+
+// Clip shortens s to n characters, with an ellipsis when it cut, for
+// quoting typed text in a message.
+func Clip(s string, n int) string {
+	if utf8.RuneCountInString(s) <= n {
+		return s
+	}
+	return string([]rune(s)[:n]) + "…"
+}

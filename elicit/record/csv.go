@@ -1,0 +1,95 @@
+package record
+
+import (
+	"encoding/csv"
+	"io"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// csvHeader names the columns of WriteCSV, one row per revision.
+var csvHeader = []string{
+	"workshop_id", "workshop", "question_id", "question", "expert_id", "expert",
+	"revision_id", "round", "at", "entered_by", "channel", "reason", "format", "stated",
+	"alpha", "beta", "lower", "upper", "sse", "max_prob_error", "p05", "p50", "p95", "warnings",
+}
+
+// WriteCSV writes one row per revision, oldest first. Stated values are
+// listed in the question's order, separated by spaces; for the interval
+// format they are lowest, highest, best, confidence. Text that a
+// spreadsheet would run as a formula is prefixed with an apostrophe.
+func (r Record) WriteCSV(w io.Writer) error {
+	questions := map[int64]workshop.Question{}
+	for _, q := range r.Questions {
+		questions[q.ID] = q.Question
+	}
+	experts := map[int64]string{}
+	for _, e := range r.Experts {
+		experts[e.ID] = e.Name
+	}
+	cw := csv.NewWriter(w)
+	if err := cw.Write(csvHeader); err != nil {
+		return err
+	}
+	for _, rv := range r.Revisions {
+		q := questions[rv.QuestionID]
+		row := []string{
+			strconv.FormatInt(r.Workshop.ID, 10), cell(r.Workshop.Title),
+			strconv.FormatInt(q.ID, 10), cell(q.Quantity),
+			strconv.FormatInt(rv.ExpertID, 10), cell(experts[rv.ExpertID]),
+			strconv.FormatInt(rv.ID, 10), strconv.Itoa(rv.Round), rv.At.UTC().Format(time.RFC3339Nano),
+			string(rv.EnteredBy), string(rv.Channel), cell(rv.Reason), string(q.Format), stated(q.Format, rv.Answer),
+		}
+		if f := rv.Fit; f != nil {
+			codes := make([]string, len(f.Warnings))
+			for i, w := range f.Warnings {
+				codes[i] = w.Code
+			}
+			row = append(row, floats(f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper,
+				f.SSE, f.MaxProbError, f.Percentiles.P05, f.Percentiles.P50, f.Percentiles.P95)...)
+			row = append(row, strings.Join(codes, " "))
+		} else {
+			row = append(row, make([]string, 9)...)
+			row = append(row, cell(rv.FitError))
+		}
+		if err := cw.Write(row); err != nil {
+			return err
+		}
+	}
+	cw.Flush()
+	return cw.Error()
+}
+
+func stated(f workshop.AnswerFormat, a workshop.Answer) string {
+	switch f {
+	case workshop.FormatInterval:
+		return strings.Join(floats(a.Lowest, a.Highest, a.Best, a.Confidence), " ")
+	case workshop.FormatChips:
+		parts := make([]string, len(a.Counts))
+		for i, c := range a.Counts {
+			parts[i] = strconv.Itoa(c)
+		}
+		return strings.Join(parts, " ")
+	}
+	return strings.Join(floats(a.Values...), " ")
+}
+
+func floats(xs ...float64) []string {
+	out := make([]string, len(xs))
+	for i, x := range xs {
+		out[i] = strconv.FormatFloat(x, 'g', -1, 64)
+	}
+	return out
+}
+
+// cell guards free text against spreadsheet formula injection (OWASP,
+// "CSV Injection").
+func cell(s string) string {
+	if s != "" && strings.ContainsRune("=+-@\t\r", rune(s[0])) {
+		return "'" + s
+	}
+	return s
+}

@@ -1,0 +1,389 @@
+package record
+
+import (
+	"encoding/json"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// Version is the layout version of the export document, written as
+// its "parley_record" key.
+const Version = 1
+
+// Caution is the note every record and report carries about what an
+// elicited prior is.
+const Caution = "An elicited prior is documented expert judgement, not data. " +
+	"Review it, test how sensitive your conclusions are to it, and where it feeds clinical, " +
+	"safety or environmental decisions, follow your field's own guidance and its regulators, " +
+	"which take precedence over this record."
+
+// Record is the export document of one workshop: everything a project lead
+// or a reviewer needs to see how the prior was reached. Derived numbers
+// (fits, pools) are recomputed from the judgements whenever a record is
+// built; an import keeps only the judgements and decisions.
+type Record struct {
+	Format    int               `json:"parley_record"`
+	Generated time.Time         `json:"generated_at"`
+	Caution   string            `json:"caution"`
+	Workshop  workshop.Workshop `json:"workshop"`
+	Experts   []workshop.Expert `json:"experts"`
+	Questions []Question        `json:"questions"`
+	// Revisions is every saved answer, oldest first, with its fit.
+	Revisions []Revision `json:"revisions"`
+	// Weights is the set in force; WeightHistory is every set applied,
+	// oldest first, each with what it was made from, so every pool the
+	// record shows (the current pools and each agreed prior's, through
+	// its weight_set_id) can be reproduced. WeightHistory is empty when
+	// no set was ever applied, and in records made before Parley kept it.
+	Weights       workshop.Weights   `json:"weights"`
+	WeightHistory []workshop.Weights `json:"weight_history"`
+	Events        []workshop.Event   `json:"events"`
+	// Performance is the scoring of the panel on the calibration questions
+	// by Cooke's classical model (record_scores.go), present once every
+	// calibration question's true value is revealed; PerformanceNote says
+	// why it is absent when there are calibration questions.
+	Performance     *workshop.Performance `json:"performance,omitempty"`
+	PerformanceNote string                `json:"performance_note,omitempty"`
+}
+
+// Question is a question with its current state: each expert's
+// latest fit, the pool of those fits, and the agreed priors. A
+// calibration question's true value is present only once revealed.
+type Question struct {
+	workshop.Question
+	CurrentFits []CurrentFit `json:"current_fits"`
+	Pool        *Pool        `json:"pool,omitempty"`
+	PoolError   string       `json:"pool_error,omitempty"`
+	// AgreedPrior is the current agreed prior, with snippets for
+	// modelling languages; PriorHistory is every agreement, oldest first.
+	AgreedPrior  *Prior                 `json:"agreed_prior,omitempty"`
+	PriorHistory []workshop.AgreedPrior `json:"prior_history"`
+}
+
+// CurrentFit is an expert's latest revision on a question and its fit.
+type CurrentFit struct {
+	ExpertID   int64  `json:"expert_id"`
+	RevisionID int64  `json:"revision_id"`
+	Round      int    `json:"round"`
+	Fit        *Fit   `json:"fit,omitempty"`
+	FitError   string `json:"fit_error,omitempty"`
+}
+
+// Revision is one saved answer with the Beta fitted to it. FitError
+// is set instead of Fit when the answer cannot be fitted.
+type Revision struct {
+	workshop.Revision
+	Fit      *Fit   `json:"fit,omitempty"`
+	FitError string `json:"fit_error,omitempty"`
+}
+
+// Fit is a fit as the record shows it: the Beta on the question's
+// scale, how well it meets the stated probabilities, its 5/50/95
+// percentiles and any warnings.
+type Fit struct {
+	Dist         elicit.ScaledBeta    `json:"dist"`
+	SSE          float64              `json:"sse"`
+	MaxProbError float64              `json:"max_prob_error"`
+	Probs        []float64            `json:"probs"`
+	Stated       []float64            `json:"stated"`
+	Fitted       []float64            `json:"fitted"`
+	Percentiles  workshop.Percentiles `json:"percentiles"`
+	Warnings     []Warning            `json:"warnings"`
+}
+
+// Warning is one warning about a fit.
+type Warning struct {
+	Code    string `json:"code"`
+	Message string `json:"message"`
+}
+
+// Pool is the linear opinion pool of the experts' current fits.
+type Pool struct {
+	Weights     []workshop.ExpertWeight `json:"weights"` // normalised, summing to 1
+	Mean        float64                 `json:"mean"`
+	SD          float64                 `json:"sd"`
+	Percentiles workshop.Percentiles    `json:"percentiles"`
+	// BestBeta is the single Beta that represents the pool (elicit.Pool.BestBeta);
+	// BestBetaError says why there is none.
+	BestBeta      *BestBeta `json:"best_beta,omitempty"`
+	BestBetaError string    `json:"best_beta_error,omitempty"`
+}
+
+// BestBeta is the single Beta that represents a pool and how far it
+// is from the pool: the least-squares objective on the probability scale,
+// the largest CDF gap, and its 5/50/95 percentiles minus the pool's.
+type BestBeta struct {
+	Dist          elicit.ScaledBeta    `json:"dist"`
+	SSE           float64              `json:"sse"`
+	MaxCDFError   float64              `json:"max_cdf_error"`
+	QuantileDiffs workshop.Percentiles `json:"quantile_diffs"`
+}
+
+// Prior is the current agreed prior with its summary (mean, SD and
+// 5th, 50th and 95th percentiles, on the question's scale) and one-line
+// snippets of it in modelling languages. The priors CSV and the report's
+// summary table print these very numbers.
+type Prior struct {
+	workshop.AgreedPrior
+	Mean        float64              `json:"mean"`
+	SD          float64              `json:"sd"`
+	Percentiles workshop.Percentiles `json:"percentiles"`
+	Snippets    []Snippet            `json:"snippets"`
+}
+
+// newPrior summarises an agreed prior for the record.
+func newPrior(p workshop.AgreedPrior) *Prior {
+	d := p.Dist
+	return &Prior{AgreedPrior: p, Mean: d.Mean(), SD: d.SD(),
+		Percentiles: workshop.Percentiles{P05: d.Quantile(0.05), P50: d.Quantile(0.5), P95: d.Quantile(0.95)},
+		Snippets:    PriorSnippets(d)}
+}
+
+// Snippet is a prior written in one modelling language's notation.
+type Snippet struct {
+	Language string `json:"language"`
+	Code     string `json:"code"`
+}
+
+// Build builds the export document at time now. Every revision is
+// fitted with its question's Fit; each question's current fits, pool and
+// single Beta are its panel state (workshop.PanelState) under the current
+// weights (equal weights give each expert 1; other schemes give an expert
+// without a weight 0). A true value is left out until the facilitator has
+// revealed it.
+func Build(src workshop.Snapshot, now time.Time) (Record, error) {
+	r := Record{
+		Format:        Version,
+		Generated:     now.UTC(),
+		Caution:       Caution,
+		Workshop:      src.Workshop,
+		Experts:       append([]workshop.Expert{}, src.Experts...),
+		Questions:     []Question{},
+		Revisions:     []Revision{},
+		Weights:       src.Weights,
+		WeightHistory: []workshop.Weights{},
+		Events:        append([]workshop.Event{}, src.Events...),
+	}
+	questions := map[int64]workshop.Question{}
+	for _, q := range src.Questions {
+		if q.WorkshopID != src.Workshop.ID {
+			return Record{}, fmt.Errorf("elicit: record: question %d belongs to workshop %d, not %d",
+				q.ID, q.WorkshopID, src.Workshop.ID)
+		}
+		questions[q.ID] = q
+	}
+	// A weight set's basis shows a true value only once it is revealed,
+	// as the question does.
+	withheld := func(w workshop.Weights) workshop.Weights {
+		if w.Basis != nil {
+			b := w.Basis.Withheld(questions)
+			w.Basis = &b
+		}
+		return w
+	}
+	r.Weights = withheld(r.Weights)
+	for _, w := range src.WeightHistory {
+		r.WeightHistory = append(r.WeightHistory, withheld(w))
+	}
+	// Every revision is fitted once; the panels read these fits.
+	type fitted struct {
+		fit elicit.Fit
+		err error
+	}
+	fits := make(map[int64]fitted, len(src.Revisions))
+	index := make(map[int64]int, len(src.Revisions)) // revision id → index in r.Revisions
+	for _, rv := range src.Revisions {
+		q, ok := questions[rv.QuestionID]
+		if !ok {
+			return Record{}, fmt.Errorf("elicit: record: revision %d: question %d: %w", rv.ID, rv.QuestionID, workshop.ErrNotFound)
+		}
+		rr := Revision{Revision: rv}
+		if rr.EnteredBy == "" {
+			rr.EnteredBy = workshop.ByExpert // records older than the field were all the experts' own
+		}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			rr.FitError = err.Error()
+		} else {
+			rr.Fit = FitOf(f)
+		}
+		fits[rv.ID] = fitted{f, err}
+		index[rv.ID] = len(r.Revisions)
+		r.Revisions = append(r.Revisions, rr)
+	}
+	fitOf := func(_ workshop.Question, rv workshop.Revision) (elicit.Fit, error) {
+		f := fits[rv.ID]
+		return f.fit, f.err
+	}
+	for _, q := range src.Questions {
+		rq := Question{Question: q, CurrentFits: []CurrentFit{}, PriorHistory: []workshop.AgreedPrior{}}
+		if !q.Revealed {
+			rq.TrueValue = nil
+		}
+		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: src.Experts,
+			Revisions: src.Revisions, Weights: src.Weights, Fit: fitOf})
+		for _, m := range panel.Members {
+			if m.Revision == nil {
+				continue
+			}
+			rv := r.Revisions[index[m.Revision.ID]]
+			rq.CurrentFits = append(rq.CurrentFits, CurrentFit{
+				ExpertID: m.Expert.ID, RevisionID: rv.ID, Round: rv.Round, Fit: rv.Fit, FitError: rv.FitError,
+			})
+		}
+		switch {
+		case errors.Is(panel.PoolErr, workshop.ErrNoFits):
+		case panel.PoolErr != nil:
+			rq.PoolError = panel.PoolErr.Error()
+		default:
+			rq.Pool = recordPool(panel)
+		}
+		for _, ap := range src.Priors {
+			if ap.QuestionID == q.ID {
+				rq.PriorHistory = append(rq.PriorHistory, ap)
+			}
+		}
+		if n := len(rq.PriorHistory); n > 0 {
+			cur := rq.PriorHistory[n-1]
+			rq.AgreedPrior = newPrior(cur)
+		}
+		r.Questions = append(r.Questions, rq)
+	}
+	r.Performance, r.PerformanceNote = recordPerformance(src)
+	return r, nil
+}
+
+// recordPool is a panel's pool as the record writes it.
+func recordPool(p workshop.Panel) *Pool {
+	pts := p.Points
+	rp := &Pool{
+		Weights:     []workshop.ExpertWeight{},
+		Mean:        p.Pool.Mean(),
+		SD:          p.Pool.SD(),
+		Percentiles: workshop.Percentiles{P05: pts[0].Value, P50: pts[1].Value, P95: pts[2].Value},
+	}
+	if p.Single == nil {
+		rp.BestBetaError = p.SingleErr.Error()
+	} else {
+		d := p.Single.QuantileDiffs
+		rp.BestBeta = &BestBeta{Dist: p.Single.Dist, SSE: p.Single.SSE, MaxCDFError: p.Single.MaxCDFError,
+			QuantileDiffs: workshop.Percentiles{P05: d[0], P50: d[1], P95: d[2]}}
+	}
+	for _, m := range p.Members {
+		if m.Pooled {
+			rp.Weights = append(rp.Weights, workshop.ExpertWeight{ExpertID: m.Expert.ID, Weight: m.Share})
+		}
+	}
+	return rp
+}
+
+// PriorSnippets writes d as Stan, R, PyMC and JAGS write a Beta prior on a
+// parameter p. A Beta on [Lower, Upper] other than [0, 1] is written for
+// the unit-scale parameter, with the rescaling alongside.
+func PriorSnippets(d elicit.ScaledBeta) []Snippet {
+	a, b := num(d.Alpha), num(d.Beta.Beta)
+	unit := d.Lower == 0 && d.Upper == 1
+	name, scale := "p", ""
+	if !unit {
+		name = "p_unit"
+		scale = fmt.Sprintf("p = %s + %s * p_unit", num(d.Lower), num(d.Upper-d.Lower))
+	}
+	with := func(code, comment string) string {
+		if unit {
+			return code
+		}
+		return code + "  " + comment + " " + scale
+	}
+	return []Snippet{
+		{"Stan", with(fmt.Sprintf("%s ~ beta(%s, %s);", name, a, b), "//")},
+		{"R", with(fmt.Sprintf("dbeta(%s, %s, %s)", name, a, b), "#")},
+		{"PyMC", with(fmt.Sprintf("pm.Beta(%q, alpha=%s, beta=%s)", name, a, b), "#")},
+		{"JAGS", with(fmt.Sprintf("%s ~ dbeta(%s, %s)", name, a, b), "#")},
+	}
+}
+
+// num writes a parameter with six significant digits, enough to
+// reproduce every printed percentile.
+func num(x float64) string { return strconv.FormatFloat(x, 'g', 6, 64) }
+
+// FitOf converts a fit to the record's form.
+func FitOf(f elicit.Fit) *Fit {
+	rf := &Fit{
+		Dist:         f.Dist,
+		SSE:          f.SSE,
+		MaxProbError: f.MaxProbError,
+		Probs:        f.Probs,
+		Stated:       f.Stated,
+		Fitted:       f.Fitted,
+		Percentiles:  workshop.Percentiles{P05: f.Percentiles[0], P50: f.Percentiles[1], P95: f.Percentiles[2]},
+		Warnings:     []Warning{},
+	}
+	for _, w := range f.Warnings {
+		rf.Warnings = append(rf.Warnings, Warning{Code: string(w.Code), Message: w.Message})
+	}
+	return rf
+}
+
+// ForQuestion narrows the record to one question: its revisions, its
+// events and the workshop-wide events. The panel and weights stay whole,
+// and so does the evidence behind any performance weights (the
+// calibration questions their bases scored or left out, and the
+// revisions they scored), so the narrowed record still reproduces the
+// question's pools.
+func (r Record) ForQuestion(id int64) (Record, error) {
+	out := r
+	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
+	found := false
+	for _, q := range r.Questions {
+		found = found || q.ID == id
+	}
+	if !found {
+		return Record{}, fmt.Errorf("elicit: question %d of workshop %d: %w", id, r.Workshop.ID, workshop.ErrNotFound)
+	}
+	for _, w := range r.WeightHistory {
+		if w.Basis == nil {
+			continue
+		}
+		for _, q := range w.Basis.Questions {
+			keepQ[q.QuestionID] = true
+		}
+		for _, q := range w.Basis.Skipped {
+			keepQ[q.ID] = true
+		}
+		for _, a := range w.Basis.CalibrationAnswers {
+			keepR[a.RevisionID] = true
+		}
+	}
+	for _, q := range r.Questions {
+		if keepQ[q.ID] {
+			out.Questions = append(out.Questions, q)
+		}
+	}
+	for _, rv := range r.Revisions {
+		if rv.QuestionID == id || keepR[rv.ID] {
+			out.Revisions = append(out.Revisions, rv)
+		}
+	}
+	for _, e := range r.Events {
+		if e.QuestionID == 0 || e.QuestionID == id {
+			out.Events = append(out.Events, e)
+		}
+	}
+	return out, nil
+}
+
+// WriteJSON writes the record as one JSON document indented by two
+// spaces, as `parley export` and the facilitator's download give it. It
+// is the one JSON writer of records.
+func (r Record) WriteJSON(w io.Writer) error {
+	enc := json.NewEncoder(w)
+	enc.SetIndent("", "  ")
+	return enc.Encode(r)
+}

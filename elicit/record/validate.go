@@ -1,0 +1,325 @@
+package record
+
+import (
+	"fmt"
+	"math"
+	"sort"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// Validate checks a record as an import would receive it: the format
+// marker, every field of every entity, and that every reference points at
+// an entity of the record. Every text passes the rules of the form it was
+// typed in (package input: valid UTF-8, no control characters but
+// newline, carriage return and tab, the same limits in characters); every
+// id is from 1 to input.MaxID; the workshop's round is at most
+// workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
+// by fitting them. Derived numbers (fits, pools, snippets) are not trusted
+// and not checked: an import drops them. The first broken rule is
+// returned as an *elicit.InputError whose Field is the path into the document,
+// e.g. "revisions[3].answer.values[1]".
+func (r Record) Validate() error {
+	if r.Format != Version {
+		return inputErr("parley_record", elicit.RuleUnknown, "format %d; this version reads %d", r.Format, Version)
+	}
+	w := r.Workshop
+	if err := checkWorkshop(w); err != nil {
+		return err
+	}
+	experts := map[int64]bool{}
+	for i, e := range r.Experts {
+		p := fmt.Sprintf("experts[%d]", i)
+		if err := checkID(p+".id", e.ID, experts); err != nil {
+			return err
+		}
+		if e.WorkshopID != w.ID {
+			return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", e.WorkshopID, w.ID)
+		}
+		if err := e.CheckText(); err != nil {
+			return under(p, err)
+		}
+		if e.Created.IsZero() {
+			return inputErr(p+".created", elicit.RuleRequired, "")
+		}
+		experts[e.ID] = true
+	}
+	questions := map[int64]workshop.Question{}
+	seenQ := map[int64]bool{}
+	positions := map[int]bool{}
+	for i, q := range r.Questions {
+		p := fmt.Sprintf("questions[%d]", i)
+		if err := checkID(p+".id", q.ID, seenQ); err != nil {
+			return err
+		}
+		if q.WorkshopID != w.ID {
+			return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", q.WorkshopID, w.ID)
+		}
+		if err := checkQuestion(p, q.Question); err != nil {
+			return err
+		}
+		if positions[q.Position] {
+			return inputErr(p+".position", elicit.RuleUnknown, "position %d appears twice", q.Position)
+		}
+		positions[q.Position] = true
+		seenQ[q.ID] = true
+		questions[q.ID] = q.Question
+		for j, ap := range q.PriorHistory {
+			if err := checkPrior(fmt.Sprintf("%s.prior_history[%d]", p, j), ap, q.Question, w); err != nil {
+				return err
+			}
+		}
+	}
+	seenR := map[int64]bool{}
+	for i, rv := range r.Revisions {
+		p := fmt.Sprintf("revisions[%d]", i)
+		if err := checkID(p+".id", rv.ID, seenR); err != nil {
+			return err
+		}
+		seenR[rv.ID] = true
+		q, ok := questions[rv.QuestionID]
+		if !ok {
+			return inputErr(p+".question_id", elicit.RuleUnknown, "no question %d in the record", rv.QuestionID)
+		}
+		if !experts[rv.ExpertID] {
+			return inputErr(p+".expert_id", elicit.RuleUnknown, "no expert %d in the record", rv.ExpertID)
+		}
+		if err := checkRound(p+".round", rv.Round, w); err != nil {
+			return err
+		}
+		if rv.At.IsZero() {
+			return inputErr(p+".at", elicit.RuleRequired, "")
+		}
+		if err := input.CheckText(p+".reason", rv.Reason, input.MaxLongText, false); err != nil {
+			return err
+		}
+		if err := rv.CheckProvenance(); err != nil {
+			return under(p, err)
+		}
+		if _, err := q.Fit(rv.Answer); err != nil {
+			return under(p+".answer", err)
+		}
+	}
+	if err := r.checkWeightHistory(experts, questions); err != nil {
+		return err
+	}
+	seenE := map[int64]bool{}
+	for i, e := range r.Events {
+		p := fmt.Sprintf("events[%d]", i)
+		if err := checkID(p+".id", e.ID, seenE); err != nil {
+			return err
+		}
+		seenE[e.ID] = true
+		if e.WorkshopID != w.ID {
+			return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", e.WorkshopID, w.ID)
+		}
+		if _, ok := questions[e.QuestionID]; e.QuestionID != 0 && !ok {
+			return inputErr(p+".question_id", elicit.RuleUnknown, "no question %d in the record", e.QuestionID)
+		}
+		if !knownEvent(e.Kind) {
+			return inputErr(p+".kind", elicit.RuleUnknown, "%q", e.Kind)
+		}
+		if e.At.IsZero() {
+			return inputErr(p+".at", elicit.RuleRequired, "")
+		}
+		if err := input.CheckText(p+".reason", e.Reason, input.MaxLongText, false); err != nil {
+			return err
+		}
+		if err := input.CheckText(p+".detail", e.Detail, input.MaxDetail, false); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+func checkWorkshop(w workshop.Workshop) error {
+	if err := input.CheckID("workshop.id", w.ID); err != nil {
+		return err
+	}
+	if err := w.CheckText(); err != nil {
+		return under("workshop", err)
+	}
+	if w.Round < 1 || w.Round > workshop.MaxRounds {
+		return inputErr("workshop.round", elicit.RuleCountRange, "round %d; a workshop has rounds 1 to %d", w.Round, workshop.MaxRounds)
+	}
+	if w.Created.IsZero() {
+		return inputErr("workshop.created", elicit.RuleRequired, "")
+	}
+	return nil
+}
+
+func checkQuestion(p string, q workshop.Question) error {
+	if err := input.CheckID(p+".position", int64(q.Position)); err != nil {
+		return err
+	}
+	if q.TrueValue != nil && !q.Calibration {
+		return inputErr(p+".true_value", elicit.RuleUnknown, "only a calibration question has a true value")
+	}
+	if err := checkOptionalID(p+".revealed_through", q.RevealedThrough); err != nil {
+		return err
+	}
+	if (q.RevealedAt != nil || q.RevealedThrough > 0) && !q.Frozen() {
+		return inputErr(p+".revealed_at", elicit.RuleUnknown, "only a calibration question whose true value is revealed has a reveal")
+	}
+	return under(p, q.Validate())
+}
+
+func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w workshop.Workshop) error {
+	if err := input.CheckID(p+".id", ap.ID); err != nil {
+		return err
+	}
+	if err := checkOptionalID(p+".weight_set_id", ap.WeightSetID); err != nil {
+		return err
+	}
+	if ap.QuestionID != q.ID {
+		return inputErr(p+".question_id", elicit.RuleUnknown, "%d is not the question's id %d", ap.QuestionID, q.ID)
+	}
+	switch ap.Source {
+	case workshop.PriorFromPool, workshop.PriorFromConsensus:
+	default:
+		return inputErr(p+".source", elicit.RuleUnknown, "%q", ap.Source)
+	}
+	if err := ap.Dist.Validate(); err != nil {
+		return under(p+".dist", err)
+	}
+	if ap.Consensus != nil {
+		if _, err := q.Fit(*ap.Consensus); err != nil {
+			return under(p+".consensus", err)
+		}
+	}
+	if err := input.CheckText(p+".rationale", ap.Rationale, input.MaxLongText, false); err != nil {
+		return err
+	}
+	if err := checkRound(p+".round", ap.Round, w); err != nil {
+		return err
+	}
+	if ap.At.IsZero() {
+		return inputErr(p+".at", elicit.RuleRequired, "")
+	}
+	return nil
+}
+
+// checkWeightHistory checks the weights in force, every set in the
+// history with its basis, and that the history ends with the set in
+// force. A record without a history (made before Parley kept one) must
+// not name a set it does not carry.
+func (r Record) checkWeightHistory(experts map[int64]bool, questions map[int64]workshop.Question) error {
+	w := r.Workshop
+	if err := checkRecordWeights("weights", r.Weights, w, experts); err != nil {
+		return err
+	}
+	sets := map[int64]bool{}
+	var last workshop.Weights
+	for i, wt := range r.WeightHistory {
+		p := fmt.Sprintf("weight_history[%d]", i)
+		if err := checkRecordWeights(p, wt, w, experts); err != nil {
+			return err
+		}
+		if wt.ID <= last.ID {
+			return inputErr(p+".id", elicit.RuleUnknown, "set %d after set %d: the history runs oldest first", wt.ID, last.ID)
+		}
+		if wt.At.IsZero() {
+			return inputErr(p+".at", elicit.RuleRequired, "")
+		}
+		if wt.Basis != nil {
+			if err := checkBasis(p+".basis", *wt.Basis, wt, r, experts, questions); err != nil {
+				return err
+			}
+		}
+		sets[wt.ID], last = true, wt
+	}
+	switch {
+	case len(r.WeightHistory) > 0 && r.Weights.ID != last.ID:
+		return inputErr("weights.id", elicit.RuleUnknown, "set %d is in force, but the history ends with set %d", r.Weights.ID, last.ID)
+	case len(r.WeightHistory) == 0 && r.Weights.ID != 0:
+		return inputErr("weights.id", elicit.RuleUnknown, "set %d is not in weight_history", r.Weights.ID)
+	case r.Weights.Basis != nil && len(r.WeightHistory) == 0:
+		return inputErr("weights.basis", elicit.RuleUnknown, "a basis needs its set in weight_history")
+	}
+	for i, q := range r.Questions {
+		for j, ap := range q.PriorHistory {
+			if ap.WeightSetID != 0 && !sets[ap.WeightSetID] {
+				return inputErr(fmt.Sprintf("questions[%d].prior_history[%d].weight_set_id", i, j), elicit.RuleUnknown,
+					"no weight set %d in weight_history", ap.WeightSetID)
+			}
+		}
+	}
+	return nil
+}
+
+func checkRecordWeights(p string, wt workshop.Weights, w workshop.Workshop, experts map[int64]bool) error {
+	if err := checkOptionalID(p+".id", wt.ID); err != nil {
+		return err
+	}
+	if wt.WorkshopID != w.ID {
+		return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", wt.WorkshopID, w.ID)
+	}
+	switch wt.Scheme {
+	case workshop.WeightsEqual, workshop.WeightsCustom, workshop.WeightsPerformance:
+	default:
+		return inputErr(p+".scheme", elicit.RuleUnknown, "%q", wt.Scheme)
+	}
+	ids := make([]int64, 0, len(wt.ByExpert))
+	for id := range wt.ByExpert {
+		ids = append(ids, id)
+	}
+	sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
+	total := 0.0
+	for _, id := range ids {
+		f := fmt.Sprintf("%s.by_expert[%d]", p, id)
+		if !experts[id] {
+			return inputErr(f, elicit.RuleUnknown, "no expert %d in the record", id)
+		}
+		v := wt.ByExpert[id]
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return inputErr(f, elicit.RuleFinite, "got %v", v)
+		}
+		if v < 0 {
+			return inputErr(f, elicit.RuleNonNegative, "got %v", v)
+		}
+		total += v
+	}
+	if wt.Scheme != workshop.WeightsEqual && total == 0 {
+		return inputErr(p+".by_expert", elicit.RuleWeightsNotAllZero, "")
+	}
+	return input.CheckText(p+".reason", wt.Reason, input.MaxLongText, false)
+}
+
+func checkRound(field string, round int, w workshop.Workshop) error {
+	if round < 1 || round > w.Round {
+		return inputErr(field, elicit.RuleCountRange, "round %d; the workshop has rounds 1 to %d", round, w.Round)
+	}
+	return nil
+}
+
+func checkID(field string, id int64, seen map[int64]bool) error {
+	if err := input.CheckID(field, id); err != nil {
+		return err
+	}
+	if seen[id] {
+		return inputErr(field, elicit.RuleUnknown, "id %d appears twice", id)
+	}
+	return nil
+}
+
+// checkOptionalID checks an id that may be 0 for none: 0 to input.MaxID.
+func checkOptionalID(field string, id int64) error {
+	if id == 0 {
+		return nil
+	}
+	if id < 0 {
+		return inputErr(field, elicit.RuleNonNegative, "got %d", id)
+	}
+	return input.CheckID(field, id)
+}
+
+func knownEvent(k workshop.EventKind) bool {
+	for _, known := range workshop.EventKinds {
+		if k == known {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,29 @@
+package workshop
+
+import (
+	"errors"
+	"fmt"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// Sentinel errors of the workshop domain, returned (wrapped) by storage.
+var (
+	ErrNotFound    = errors.New("not found")
+	ErrRoundClosed = errors.New("the round is closed")
+	// ErrAnswersFrozen is returned when an answer is saved to a
+	// calibration question whose true value has been revealed.
+	ErrAnswersFrozen = errors.New("the true value has been revealed, so the answers to this question are final")
+	// ErrRoundStillOpen is returned when a prior is agreed while the
+	// round is open and the facilitator has not confirmed it.
+	ErrRoundStillOpen = errors.New("the round is still open, so answers may still change")
+	// ErrRevoked is returned when a revoked expert's answer is saved.
+	ErrRevoked = errors.New("the expert's access has been revoked")
+	// ErrRetired is returned when an answer is saved to a retired question.
+	ErrRetired = errors.New("the question has been retired")
+)
+
+// inputErr is an *elicit.InputError for field with a formatted detail.
+func inputErr(field string, rule elicit.Rule, format string, args ...any) *elicit.InputError {
+	return &elicit.InputError{Field: field, Rule: rule, Detail: fmt.Sprintf(format, args...)}
+}

@@ -1,0 +1,166 @@
+package workshop
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+)
+
+// Rules of question definitions and answers.
+const (
+	RuleQuantileFormat elicit.Rule = "format does not give quantile judgements"
+	RuleChipsExceeded  elicit.Rule = "more chips placed than the question allows"
+)
+
+// Probability sets a facilitator can ask for in FormatQuantiles. They are
+// shared values: copy before changing.
+var (
+	// ProbsDefault asks for the 5th, 50th and 95th percentiles.
+	ProbsDefault = []float64{0.05, 0.5, 0.95}
+	// ProbsQuartiles asks for the lower quartile, median and upper quartile.
+	ProbsQuartiles = []float64{0.25, 0.5, 0.75}
+	// ProbsTertiles asks for the tertiles, 1/3 and 2/3, with the median
+	// between them, so that the expert states a central value as well as
+	// three equally likely ranges.
+	ProbsTertiles = []float64{1.0 / 3, 0.5, 2.0 / 3}
+)
+
+// MaxChips is the most chips a chips question may ask an expert to place.
+const MaxChips = 1000
+
+// Validate checks a question's definition and returns the first broken
+// rule as an *elicit.InputError: the wording (at most input.MaxLongText
+// characters), quantity and units (input.MaxShortText) by the text rule of
+// input.CheckText, wording and quantity present; bounds finite and
+// ordered; a known format; for FormatQuantiles, elicit.MinPairs to
+// elicit.MaxPairs probabilities passing elicit.CheckProbs; for
+// FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
+// increase from Lower to Upper and between elicit.MinChipBins and MaxChips
+// chips; a true value, if set, finite and strictly inside (Lower, Upper).
+func (q Question) Validate() error {
+	if err := q.checkText(); err != nil {
+		return err
+	}
+	if err := elicit.CheckBounds(q.Lower, q.Upper); err != nil {
+		return err
+	}
+	switch q.Format {
+	case FormatQuantiles:
+		if n := len(q.Probs); n < elicit.MinPairs || n > elicit.MaxPairs {
+			return inputErr("probs", elicit.RuleCount, "need %d to %d probabilities, got %d", elicit.MinPairs, elicit.MaxPairs, n)
+		}
+		if err := elicit.CheckProbs("probs", q.Probs); err != nil {
+			return err
+		}
+	case FormatInterval:
+	case FormatChips:
+		if err := elicit.CheckEdges("bin_edges", q.BinEdges); err != nil {
+			return err
+		}
+		last := len(q.BinEdges) - 1
+		if q.BinEdges[0] != q.Lower {
+			return inputErr("bin_edges[0]", elicit.RuleEdgesSpanBounds, "first edge %v, lower %v", q.BinEdges[0], q.Lower)
+		}
+		if q.BinEdges[last] != q.Upper {
+			return inputErr(fmt.Sprintf("bin_edges[%d]", last), elicit.RuleEdgesSpanBounds, "last edge %v, upper %v", q.BinEdges[last], q.Upper)
+		}
+		if q.Chips < elicit.MinChipBins || q.Chips > MaxChips {
+			return inputErr("chips", elicit.RuleCountRange, "need %d to %d chips, got %d", elicit.MinChipBins, MaxChips, q.Chips)
+		}
+	default:
+		return inputErr("format", elicit.RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
+	}
+	if t := q.TrueValue; t != nil {
+		if math.IsNaN(*t) || math.IsInf(*t, 0) {
+			return inputErr("true_value", elicit.RuleFinite, "got %v", *t)
+		}
+		if !(*t > q.Lower && *t < q.Upper) {
+			return inputErr("true_value", elicit.RuleValueInBounds, "%v not inside (%v, %v)", *t, q.Lower, q.Upper)
+		}
+	}
+	return nil
+}
+
+// checkText checks the question's text by the rules of its form.
+func (q Question) checkText() error {
+	return checkTexts([]textField{
+		{"wording", q.Wording, input.MaxLongText, true},
+		{"quantity", q.Quantity, input.MaxShortText, true},
+		{"units", q.Units, input.MaxShortText, false},
+	})
+}
+
+// Judgement turns an answer in a quantile format into the judgement it
+// states: FormatQuantiles gives P(X ≤ Values[i]) = Probs[i]; FormatInterval
+// goes through elicit.FourValue. FormatChips is not a quantile judgement and is
+// refused with RuleQuantileFormat; use Fit.
+func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
+	if err := q.Validate(); err != nil {
+		return elicit.Judgement{}, err
+	}
+	switch q.Format {
+	case FormatQuantiles:
+		if len(a.Values) != len(q.Probs) {
+			return elicit.Judgement{}, inputErr("values", elicit.RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+		}
+		j := elicit.Judgement{
+			Probs:  append([]float64(nil), q.Probs...),
+			Values: append([]float64(nil), a.Values...),
+			Lower:  q.Lower,
+			Upper:  q.Upper,
+		}
+		return j, j.Validate()
+	case FormatInterval:
+		return elicit.FourValue(a.Lowest, a.Highest, a.Best, a.Confidence, q.Lower, q.Upper)
+	}
+	return elicit.Judgement{}, inputErr("format", RuleQuantileFormat, "%q", q.Format)
+}
+
+// Fit turns an expert's answer, in the question's format, into a fitted
+// Beta on [Lower, Upper]: quantile and interval answers through Judgement
+// and elicit.FitQuantiles, chips through elicit.FitChips (at most q.Chips chips may be
+// placed). The first of q.Problems(a) is refused before anything else. Errors name the answer's field, e.g. "values[1]", "lowest",
+// "confidence" or "counts[2]".
+func (q Question) Fit(a Answer) (elicit.Fit, error) {
+	if ps := q.Problems(a); len(ps) > 0 {
+		return elicit.Fit{}, ps[0]
+	}
+	if q.Format == FormatChips {
+		return elicit.FitChips(q.BinEdges, a.Counts)
+	}
+	j, err := q.Judgement(a)
+	if err != nil {
+		return elicit.Fit{}, err
+	}
+	return elicit.FitQuantiles(j)
+}
+
+// Parley's defaults for a chips question, when the facilitator gives no
+// bins: DefaultBins equal bins across the bounds, and DefaultChips chips,
+// about three a bin, enough to show a shape in steps of about 4% of the
+// chance without asking for dozens of taps on a phone. Common practice
+// for trial roulette uses a similar number of bins (Johnson et al. 2010);
+// the numbers here are Parley's own choice, no source.
+const (
+	DefaultBins  = 8
+	DefaultChips = 24
+)
+
+// DefaultBinEdges are DefaultBins equal bins from lower to upper, each
+// inner edge rounded to four significant figures so the labels read
+// cleanly; lower and upper stay exact.
+func DefaultBinEdges(lower, upper float64) []float64 {
+	edges := make([]float64, DefaultBins+1)
+	for i := range edges {
+		x := lower + (upper-lower)*float64(i)/DefaultBins
+		if i > 0 && i < DefaultBins {
+			x, _ = strconv.ParseFloat(strconv.FormatFloat(x, 'g', 4, 64), 64)
+		}
+		edges[i] = x
+	}
+	edges[0], edges[DefaultBins] = lower, upper
+	return edges
+}
