@@ -17,14 +17,16 @@ import (
 // the database as it was. Every entity gets a new ID and every reference
 // is remapped, including expert IDs inside event details. Experts are
 // imported without access tokens: the facilitator issues new links.
-// Fits and pools in the record are not imported; they are recomputed
-// from the judgements.
+// Each revision's fit is checked against a fresh fit of its answer
+// (record.ValidateFits) and the fresh one kept with it; pools are not
+// imported but recomputed from the judgements.
 func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
-	if err := rec.Validate(); err != nil {
+	fits, err := rec.ValidateFits()
+	if err != nil {
 		return 0, err
 	}
 	var workshopID int64
-	err := db.write(ctx, func(tx *sql.Tx) error {
+	err = db.write(ctx, func(tx *sql.Tx) error {
 		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{},
 			weightSets: map[int64]int64{}}
 		var err error
@@ -41,7 +43,9 @@ func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 				return err
 			}
 		}
-		for _, rv := range rec.Revisions {
+		for i, rv := range rec.Revisions {
+			// The fresh fit, checked against the record's, is kept.
+			rv.Revision.Kept = &fits[i]
 			if err := imp.revision(rv.Revision); err != nil {
 				return err
 			}

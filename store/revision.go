@@ -3,10 +3,12 @@ package store
 import (
 	"context"
 	"database/sql"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -85,7 +87,7 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 	}
 	id, err := insertRevision(ctx, tx, workshop.Revision{
 		QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
-		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel,
+		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel, Kept: r.Kept,
 	}, values, counts)
 	if err != nil {
 		return err
@@ -146,7 +148,24 @@ func insertRevision(ctx context.Context, tx *sql.Tx, r workshop.Revision, values
 	if err != nil {
 		return 0, fmt.Errorf("store: save revision: %w", err)
 	}
+	if r.Kept != nil {
+		if err := keepFit(ctx, tx, id, *r.Kept); err != nil {
+			return 0, err
+		}
+	}
 	return id, nil
+}
+
+// keepFit stores a revision's fit beside it (revision_fits).
+func keepFit(ctx context.Context, tx *sql.Tx, revisionID int64, f elicit.Fit) error {
+	b, err := json.Marshal(f)
+	if err != nil {
+		return fmt.Errorf("store: keep fit of revision %d: %w", revisionID, err)
+	}
+	if _, err := tx.ExecContext(ctx, `INSERT INTO revision_fits (revision_id, fit) VALUES (?, ?)`, revisionID, string(b)); err != nil {
+		return fmt.Errorf("store: keep fit of revision %d: %w", revisionID, err)
+	}
+	return nil
 }
 
 // Revisions returns every revision on a workshop's questions, oldest
@@ -168,4 +187,56 @@ func enteredBy(b workshop.EnteredBy) workshop.EnteredBy {
 		return workshop.ByExpert
 	}
 	return b
+}
+
+// KeepMissingFits fits every revision that has no kept fit (one saved
+// before fits were kept, or by a caller that did not pass one) with fit,
+// and keeps the fit beside it; a revision its question cannot fit keeps
+// none. It returns how many fits it kept. `parley serve` calls it at
+// start, so that afterwards every page and record reads kept fits.
+func (db *DB) KeepMissingFits(ctx context.Context, fit func(workshop.Question, workshop.Answer) (elicit.Fit, error)) (int, error) {
+	revs, err := scanRevisions(db.r.QueryContext(ctx,
+		`SELECT `+revisionColumns+` FROM revisions r
+		 WHERE NOT EXISTS (SELECT 1 FROM revision_fits f WHERE f.revision_id = r.id) ORDER BY r.id`))
+	if err != nil {
+		return 0, err
+	}
+	questions := map[int64]workshop.Question{}
+	type kept struct {
+		id  int64
+		fit elicit.Fit
+	}
+	var fits []kept
+	for _, rv := range revs {
+		q, ok := questions[rv.QuestionID]
+		if !ok {
+			if q, err = db.Question(ctx, rv.QuestionID); err != nil {
+				return 0, err
+			}
+			questions[q.ID] = q
+		}
+		if f, err := fit(q, rv.Answer); err == nil {
+			fits = append(fits, kept{rv.ID, f})
+		}
+	}
+	if len(fits) == 0 {
+		return 0, nil
+	}
+	err = db.writeRevision(ctx, func(tx *sql.Tx) error {
+		for _, k := range fits {
+			b, err := json.Marshal(k.fit)
+			if err != nil {
+				return err
+			}
+			// A save in between may have kept one already.
+			if _, err := tx.ExecContext(ctx, `INSERT OR IGNORE INTO revision_fits (revision_id, fit) VALUES (?, ?)`, k.id, string(b)); err != nil {
+				return fmt.Errorf("store: keep fit of revision %d: %w", k.id, err)
+			}
+		}
+		return nil
+	})
+	if err != nil {
+		return 0, err
+	}
+	return len(fits), nil
 }

@@ -3,8 +3,10 @@ package store
 import (
 	"context"
 	"database/sql"
+	"encoding/json"
 	"fmt"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -12,11 +14,13 @@ import (
 // expert opens many times a round: each reads only what the page shows,
 // through the index on (question_id, expert_id, id).
 
-// The last column is whether the facilitator's latest decision on the
-// revision's reason withholds it from the feedback (reason_decisions).
+// The last two columns are whether the facilitator's latest decision on
+// the revision's reason withholds it from the feedback (reason_decisions),
+// and the revision's kept fit (revision_fits), NULL when none was kept.
 const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reason,
 	r.answer_values, r.lowest, r.highest, r.best, r.confidence, r.counts, r.percent, r.entered_by, r.channel,
-	COALESCE((SELECT d.withheld FROM reason_decisions d WHERE d.revision_id = r.id ORDER BY d.id DESC LIMIT 1), 0)`
+	COALESCE((SELECT d.withheld FROM reason_decisions d WHERE d.revision_id = r.id ORDER BY d.id DESC LIMIT 1), 0),
+	(SELECT f.fit FROM revision_fits f WHERE f.revision_id = r.id)`
 
 // ExpertRevisions returns one expert's revisions on every question of
 // their workshop, oldest first.
@@ -57,10 +61,18 @@ func scanRevisions(rows *sql.Rows, err error) ([]workshop.Revision, error) {
 			r                       workshop.Revision
 			at, vs, counts, by, via string
 			withheld, percent       int
+			kept                    sql.NullString
 		)
 		if err := rows.Scan(&r.ID, &r.QuestionID, &r.ExpertID, &r.Round, &at, &r.Reason,
-			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts, &percent, &by, &via, &withheld); err != nil {
+			&vs, &r.Answer.Lowest, &r.Answer.Highest, &r.Answer.Best, &r.Answer.Confidence, &counts, &percent, &by, &via, &withheld, &kept); err != nil {
 			return nil, fmt.Errorf("store: read revision: %w", err)
+		}
+		if kept.Valid {
+			var f elicit.Fit
+			if err := json.Unmarshal([]byte(kept.String), &f); err != nil {
+				return nil, fmt.Errorf("store: revision %d: kept fit: %w", r.ID, err)
+			}
+			r.Kept = &f
 		}
 		r.ReasonWithheld, r.Answer.Percent = withheld == 1, percent == 1
 		r.EnteredBy, r.Channel = workshop.EnteredBy(by), workshop.Channel(via)

@@ -376,7 +376,7 @@ func SheetRevisions(rows []SheetRow, channel workshop.Channel) []workshop.Revisi
 	out := make([]workshop.Revision, len(rows))
 	for i, r := range rows {
 		out[i] = workshop.Revision{QuestionID: r.Question.ID, ExpertID: r.Expert.ID, Reason: r.Reason, Answer: r.Answer,
-			EnteredBy: workshop.ByFacilitator, Channel: channel}
+			EnteredBy: workshop.ByFacilitator, Channel: channel, Kept: &rows[i].Fit}
 	}
 	return out
 }

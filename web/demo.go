@@ -147,6 +147,9 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 			QuestionID: qs[a.Question].ID, ExpertID: es[a.Expert].ID, Reason: a.Reason,
 			Answer: workshop.Answer{Values: append([]float64(nil), a.Values...)},
 		}
+		if err := keepFit(qs[a.Question], &rv); err != nil {
+			return nil, fmt.Errorf("web: demo answer: %w", err)
+		}
 		if err := st.SaveRevision(ctx, &rv); err != nil {
 			return nil, fmt.Errorf("web: demo answer: %w", err)
 		}
@@ -155,4 +158,15 @@ func SeedDemo(ctx context.Context, st Store) ([]DemoLink, error) {
 		return nil, err
 	}
 	return links, nil
+}
+
+// keepFit fits rv's answer under q, as a save from the form does, and
+// keeps the fit with the revision.
+func keepFit(q workshop.Question, rv *workshop.Revision) error {
+	f, err := q.Fit(rv.Answer)
+	if err != nil {
+		return err
+	}
+	rv.Kept = &f
+	return nil
 }

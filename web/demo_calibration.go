@@ -58,6 +58,9 @@ func seedDemoCalibration(ctx context.Context, st Store, workshopID int64, expert
 		for i, e := range experts {
 			rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID,
 				Answer: workshop.Answer{Values: append([]float64(nil), demoSeedAnswers[i][j]...)}}
+			if err := keepFit(q, &rv); err != nil {
+				return fmt.Errorf("web: demo calibration answer: %w", err)
+			}
 			if err := st.SaveRevision(ctx, &rv); err != nil {
 				return fmt.Errorf("web: demo calibration answer: %w", err)
 			}

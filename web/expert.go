@@ -550,7 +550,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		again(http.StatusConflict, closed, "", &fit)
 		return
 	}
-	rev := workshop.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a}
+	rev := workshop.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a, Kept: &fit}
 	// The write waits on the disk, not on a CPU: previews go on meanwhile.
 	stepAway(r)
 	err = s.store.SaveRevision(r.Context(), &rev)

@@ -205,7 +205,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	rev := workshop.Revision{QuestionID: sc.q.ID, ExpertID: sc.e.ID, Reason: reason, Answer: a,
-		EnteredBy: workshop.ByFacilitator, Channel: channel}
+		EnteredBy: workshop.ByFacilitator, Channel: channel, Kept: &fit}
 	if err := s.store.SaveRevision(r.Context(), &rev); err != nil {
 		var notice string
 		switch {

@@ -14,6 +14,7 @@ import (
 	"syscall"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
@@ -85,6 +86,12 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
 	if _, err := db.PurgeSessions(ctx, time.Now()); err != nil {
 		return err
+	}
+	// Revisions saved before fits were kept are fitted once, now.
+	if n, err := db.KeepMissingFits(ctx, workshop.Question.Fit); err != nil {
+		return err
+	} else if n > 0 {
+		fmt.Fprintf(stdout, "parley: kept the fits of %d earlier revisions\n", n)
 	}
 
 	// The secret exists before anything binds, so a non-loopback address is

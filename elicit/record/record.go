@@ -191,7 +191,8 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 	for _, w := range src.WeightHistory {
 		r.WeightHistory = append(r.WeightHistory, withheld(w))
 	}
-	// Every revision is fitted once; the panels read these fits.
+	// Every revision's fit, kept since it was saved (or fitted once here);
+	// the panels read these fits.
 	type fitted struct {
 		fit elicit.Fit
 		err error
@@ -207,7 +208,7 @@ func Build(src workshop.Snapshot, now time.Time) (Record, error) {
 		if rr.EnteredBy == "" {
 			rr.EnteredBy = workshop.ByExpert // records older than the field were all the experts' own
 		}
-		f, err := q.Fit(rv.Answer)
+		f, err := rv.FitOf(q) // the kept fit, fitted afresh only for revisions older than kept fits
 		if err != nil {
 			rr.FitError = err.Error()
 		} else {

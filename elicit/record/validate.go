@@ -17,11 +17,40 @@ import (
 // newline, carriage return and tab, the same limits in characters); every
 // id is from 1 to input.MaxID; the workshop's round is at most
 // workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
-// by fitting them. Derived numbers (fits, pools, snippets) are not trusted
-// and not checked: an import drops them. The first broken rule is
+// by fitting them, and a revision's fit must match the fresh one
+// (ValidateFits). The other derived numbers (pools, snippets) are not
+// trusted and not checked: an import drops them. The first broken rule is
 // returned as an *elicit.InputError whose Field is the path into the document,
 // e.g. "revisions[3].answer.values[1]".
 func (r Record) Validate() error {
+	_, err := r.ValidateFits()
+	return err
+}
+
+// ValidateFits is Validate that also returns the fresh fit of every
+// revision, in the record's order, for the import to keep with it. A
+// revision that carries its fit (every record Parley writes) is checked
+// against the fresh one: α and β must agree to 1e-6 relative and the
+// bounds exactly, else RuleFitMismatch at "revisions[i].fit".
+func (r Record) ValidateFits() ([]elicit.Fit, error) {
+	fits := make([]elicit.Fit, len(r.Revisions))
+	if err := r.validate(fits); err != nil {
+		return nil, err
+	}
+	return fits, nil
+}
+
+// fitAgreement is the relative difference in α or β beyond which a kept
+// fit does not match a fresh one: far above the fit's own accuracy (1e-9
+// relative in the objective at the global minimum), far below any
+// difference that changes a printed digit.
+const fitAgreement = 1e-6
+
+// RuleFitMismatch is the rule that a revision's fit is the fit of its
+// answer.
+const RuleFitMismatch elicit.Rule = "does not match a fresh fit of its answer"
+
+func (r Record) validate(fits []elicit.Fit) error {
 	if r.Format != Version {
 		return inputErr("parley_record", elicit.RuleUnknown, "format %d; this version reads %d", r.Format, Version)
 	}
@@ -98,9 +127,18 @@ func (r Record) Validate() error {
 		if err := rv.CheckProvenance(); err != nil {
 			return under(p, err)
 		}
-		if _, err := q.Fit(rv.Answer); err != nil {
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
 			return under(p+".answer", err)
 		}
+		if k := rv.Fit; k != nil {
+			if k.Dist.Lower != f.Dist.Lower || k.Dist.Upper != f.Dist.Upper ||
+				!(relDiff(k.Dist.Alpha, f.Dist.Alpha) <= fitAgreement) || !(relDiff(k.Dist.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement) {
+				return inputErr(p+".fit", RuleFitMismatch, "the record says Beta(%g, %g) on [%g, %g], a fresh fit gives Beta(%g, %g) on [%g, %g]",
+					k.Dist.Alpha, k.Dist.Beta.Beta, k.Dist.Lower, k.Dist.Upper, f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper)
+			}
+		}
+		fits[i] = f
 	}
 	if err := r.checkWeightHistory(experts, questions); err != nil {
 		return err
@@ -132,6 +170,11 @@ func (r Record) Validate() error {
 		}
 	}
 	return nil
+}
+
+// relDiff is |a − b| relative to the larger magnitude.
+func relDiff(a, b float64) float64 {
+	return math.Abs(a-b) / math.Max(math.Abs(a), math.Abs(b))
 }
 
 func checkWorkshop(w workshop.Workshop) error {

@@ -129,6 +129,20 @@ type Revision struct {
 	// from the round feedback: it stays in the record but no expert and no
 	// room view is shown it.
 	ReasonWithheld bool `json:"reason_withheld,omitempty"`
+	// Kept is the answer's fit as computed when the revision was saved or
+	// imported (Question.Fit), kept with it so that pages and records do
+	// not fit every revision again; nil for a revision saved before fits
+	// were kept, or one its question could not fit. Use FitOf.
+	Kept *elicit.Fit `json:"-"`
+}
+
+// FitOf is the revision's fit under q: the kept one when there is one,
+// else a fresh q.Fit of its answer.
+func (r Revision) FitOf(q Question) (elicit.Fit, error) {
+	if r.Kept != nil {
+		return *r.Kept, nil
+	}
+	return q.Fit(r.Answer)
 }
 
 // EnteredBy names who typed a revision into Parley.
