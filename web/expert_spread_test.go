@@ -6,6 +6,8 @@ import (
 	"net/http"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // TestLargePanelDrawsSpread checks that a round-2 page for a panel of 201
@@ -32,7 +34,7 @@ func TestLargePanelDrawsSpread(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, page := g.get(g.qpath(0, g.q))
-	if n := strings.Count(wideOnly(page), `class="spread-interval"`); n != 200 {
+	if n := len(chart.SpreadRows(wideOnly(page))); n != 200 {
 		t.Errorf("%d intervals in the spread, want 200 (every other expert)", n)
 	}
 	start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")

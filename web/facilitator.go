@@ -36,7 +36,9 @@ import (
 //	GET  /w/{workshop}/q/{question}/edit     correct the question (all of it before answers; its text after)
 //	POST /w/{workshop}/q/{question}/edit     save the correction (reason required)
 //	POST /w/{workshop}/q/{question}/retire   action=retire|restore, reason required
+//	GET  /w/{workshop}/q/{question}/reasons  the reasons with their withhold forms (a large panel's page links here)
 //	POST /w/{workshop}/q/{question}/reasons/{revision}  action=withhold|release a reason from the feedback
+//	GET  /w/{workshop}/q/{question}/history  the question's whole revision history
 //	GET  /w/{workshop}/q/{question}/room     the anonymised panel for the projector
 //	GET  /w/{workshop}/q/{question}/enter/{expert}      enter a judgement on the expert's behalf (facilitator_entry.go)
 //	POST /w/{workshop}/q/{question}/enter/{expert}/preview|save
@@ -76,7 +78,9 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/q/{question}/enter/{expert}", s.entryPage)
 		r.Post("/q/{question}/enter/{expert}/preview", s.entryPreview)
 		r.Post("/q/{question}/enter/{expert}/save", s.entrySave)
+		r.Get("/q/{question}/reasons", s.questionReasons)
 		r.Post("/q/{question}/reasons/{revision}", s.withholdReason)
+		r.Get("/q/{question}/history", s.questionHistory)
 		r.Get("/q/{question}/room", s.roomView)
 		r.Post("/q/{question}/weights", s.setWeights)
 		r.Post("/q/{question}/agree", s.agreePrior)

@@ -129,25 +129,29 @@ func (d workshopData) state(q workshop.Question) questionState {
 	return st
 }
 
-// chartView overlays every pooled expert's fit, the pool and the agreed
-// prior for the facilitator (with names).
-func (st questionState) chartView() chart.PanelView {
+// chartView draws every pooled expert's fit (with names), the pool and
+// the agreed prior for the facilitator; a large panel gets the strip of
+// intervals instead of one curve per expert (picture).
+func (st questionState) chartView() picture {
 	q := st.Question
-	v := chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	frame := chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	var names []string
+	var dists []elicit.ScaledBeta
 	for _, row := range st.Rows {
 		if row.Fit != nil && row.Pooled {
-			v.Curves = append(v.Curves, chart.Curve{Label: row.Expert.Name, Role: chart.RoleExpert, Dist: row.Fit.Dist})
+			names, dists = append(names, row.Expert.Name), append(dists, row.Fit.Dist)
 		}
 	}
+	var summary []chart.Curve
 	if st.Pool != nil {
 		p := st.Pool
-		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF,
+		summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF,
 			Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components})
 	}
 	if a := st.current(); a != nil {
-		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
+		summary = append(summary, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
 	}
-	return v
+	return panelPicture(frame, names, dists, summary)
 }
 
 // panelView is the per-question page for the facilitator.
@@ -155,7 +159,7 @@ type panelView struct {
 	Workshop    workshop.Workshop
 	Experts     []workshop.Expert
 	State       questionState
-	Chart       chart.PanelView
+	Chart       picture
 	WeightsForm *Form
 	AgreeForm   *Form
 	Consensus   answerForm
@@ -209,6 +213,9 @@ func (s *Server) questionPanel(w http.ResponseWriter, r *http.Request) {
 // panelForms are the panel's forms to show again with their errors; nil
 // fields are fresh.
 type panelForms struct {
+	// page is "" for the panel, or one of its long lists on a page of its
+	// own for a large panel: "reasons" or "history".
+	page                             string
 	weights, agree, retire, withhold *Form
 	withholdFor                      int64 // the revision whose withhold form is shown again
 }
@@ -243,7 +250,56 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
 	m.Caution = true
 	m.Scripts = []string{"/static/live.js"}
-	s.renderPage(w, r, status, m, panelPage(v))
+	switch forms.page {
+	case "reasons":
+		m.Title = fmt.Sprintf("Reasons, Q%d %s", q.Position, q.Quantity)
+		m.Scripts = nil
+		s.renderPage(w, r, status, m, reasonsPage(v))
+	case "history":
+		m.Title = fmt.Sprintf("History, Q%d %s", q.Position, q.Quantity)
+		m.Scripts = nil
+		s.renderPage(w, r, status, m, historyPage(v))
+	default:
+		s.renderPage(w, r, status, m, panelPage(v))
+	}
+}
+
+// questionReasons is a large panel's list of reasons, each with its
+// withhold form, on a page of its own (the panel links to it).
+func (s *Server) questionReasons(w http.ResponseWriter, r *http.Request) {
+	s.questionList(w, r, "reasons")
+}
+
+// questionHistory is a question's whole revision history on a page of
+// its own (a large panel shows only the latest saves).
+func (s *Server) questionHistory(w http.ResponseWriter, r *http.Request) {
+	s.questionList(w, r, "history")
+}
+
+func (s *Server) questionList(w http.ResponseWriter, r *http.Request, page string) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	s.showPanelWith(w, r, http.StatusOK, ws, q, panelForms{page: page})
+}
+
+// historyTail is how many of the latest saves a large panel's page shows;
+// the rest are on the history page.
+const historyTail = 20
+
+// recentHistory is the history the panel page shows: all of it for a
+// small panel, the latest historyTail saves for a large one.
+func (v panelView) recentHistory() []workshop.Revision {
+	h := v.State.History
+	if v.Chart.large() && len(h) > historyTail {
+		return h[len(h)-historyTail:]
+	}
+	return h
 }
 
 func weightField(expertID int64) string { return fmt.Sprintf("weights[%d]", expertID) }
@@ -277,6 +333,8 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 		s.notFound(w, r)
 		return
 	}
+	// A large panel lists its reasons on a page of their own.
+	large := d.state(q).chartView().large()
 	f := newForm(r.PostForm)
 	action := f.Choice("action", "", "withhold", "release")
 	why := f.Text("withhold_reason", input.MaxLongText, true)
@@ -296,9 +354,17 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 		if msg := f.Error("withhold_reason"); msg != "" {
 			f.set("", "Withholding or showing a reason needs a reason of its own: "+msg+".")
 		}
-		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{withhold: f})
+		page := ""
+		if large {
+			page = "reasons"
+		}
+		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{page: page, withhold: f})
 		return
 	}
 	s.reasonGen.Add(1)
-	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#reasons", http.StatusSeeOther)
+	back := questionPath(ws.ID, q.ID) + "#reasons"
+	if large {
+		back = questionPath(ws.ID, q.ID) + "/reasons"
+	}
+	http.Redirect(w, r, back, http.StatusSeeOther)
 }

@@ -15,7 +15,7 @@ import (
 type reportView struct {
 	Record  record.Record
 	Experts map[int64]workshop.Expert
-	Charts  map[int64]chart.PanelView
+	Charts  map[int64]picture
 }
 
 func (s *Server) report(w http.ResponseWriter, r *http.Request) {
@@ -28,7 +28,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]chart.PanelView{}}
+	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]picture{}}
 	for _, e := range rec.Experts {
 		v.Experts[e.ID] = e
 	}
@@ -40,34 +40,35 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 	s.renderPage(w, r, http.StatusOK, m, reportPage(v))
 }
 
-// reportChart overlays a question's pooled experts' current fits, their
+// reportChart draws a question's pooled experts' current fits, their
 // linear pool (elicit.LinearPool with the record's normalised weights) and
-// the agreed prior.
-func reportChart(q record.Question, experts map[int64]workshop.Expert) chart.PanelView {
-	v := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+// the agreed prior; a large panel gets the strip of intervals (picture).
+func reportChart(q record.Question, experts map[int64]workshop.Expert) picture {
+	frame := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	fits := map[int64]elicit.ScaledBeta{}
 	for _, cf := range q.CurrentFits {
 		if cf.Fit != nil {
 			fits[cf.ExpertID] = cf.Fit.Dist
 		}
 	}
+	var names []string
+	var dists []elicit.ScaledBeta
+	var summary []chart.Curve
 	if q.Pool != nil {
-		var dists []elicit.ScaledBeta
 		var weights []float64
 		for _, ew := range q.Pool.Weights {
 			d, ok := fits[ew.ExpertID]
 			if !ok {
 				continue
 			}
-			v.Curves = append(v.Curves, chart.Curve{Label: experts[ew.ExpertID].Name, Role: chart.RoleExpert, Dist: d})
-			dists, weights = append(dists, d), append(weights, ew.Weight)
+			names, dists, weights = append(names, experts[ew.ExpertID].Name), append(dists, d), append(weights, ew.Weight)
 		}
 		if pool, err := elicit.LinearPool(dists, weights); err == nil {
-			v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile})
+			summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile})
 		}
 	}
 	if a := q.AgreedPrior; a != nil {
-		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
+		summary = append(summary, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
 	}
-	return v
+	return panelPicture(frame, names, dists, summary)
 }

@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 
 	"github.com/a-h/templ"
 	"github.com/parley-elicit/parley/elicit"
@@ -21,11 +22,10 @@ type SpreadView struct {
 	Upper    float64
 	Curves   []Curve
 	Others   []elicit.ScaledBeta
-}
-
-// spreadRow is one other expert's interval in pixels.
-type spreadRow struct {
-	X1, X2, Y, Dot string
+	// WholePanel says the strip holds every pooled expert (the
+	// facilitator's panel and the report), not the others of the expert
+	// who is looking; it changes only the words.
+	WholePanel bool
 }
 
 // spreadQuartile is one row of the table of the other experts' medians.
@@ -38,10 +38,16 @@ type spreadStrip struct {
 	ID      string
 	Layout  string
 	ViewBox string
-	Rows    []spreadRow
-	Axis    axesGeom
-	XTicks  []tickGeom
-	XLabelY string
+	// Intervals and Medians are SVG path data: for each expert in turn a
+	// segment "Mx1 yHx2" from their 5th to their 95th percentile, and a
+	// zero-length segment "Mx yh0" at their median, drawn as a dot by the
+	// round line cap. Two paths instead of two elements per expert keep a
+	// strip of 200 experts to a few kilobytes.
+	Intervals string
+	Medians   string
+	Axis      axesGeom
+	XTicks    []tickGeom
+	XLabelY   string
 }
 
 type spreadModel struct {
@@ -50,6 +56,7 @@ type spreadModel struct {
 	Strips    []spreadStrip // wide, then compact
 	Title     string
 	Desc      string
+	Caption   string // of the medians' table
 	Quartiles []spreadQuartile
 }
 
@@ -122,14 +129,18 @@ func newSpreadModel(v SpreadView) spreadModel {
 		{"upper quartile", FormatValue(ms.UpperQuartile)},
 		{"highest", FormatValue(ms.Highest)},
 	}
-	what := "experts'"
+	what, other, line := "experts'", "other ", "One line per other expert"
 	if len(iv) == 1 {
 		what = "expert's"
 	}
-	m.Title = fmt.Sprintf("The other %d %s 90%% intervals for %s", len(iv), what, axisTitle(v.Quantity, v.Units))
-	m.Desc = fmt.Sprintf("One line per other expert, from their 5th to their 95th percentile, with a dot at their median, sorted by median. "+
-		"The other %d %s medians run from %s to %s; half of them lie between %s and %s.",
-		len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
+	if v.WholePanel {
+		other, line = "", "One line per expert"
+	}
+	m.Caption = "The " + other + "experts' medians"
+	m.Title = fmt.Sprintf("The %s%d %s 90%% intervals for %s", other, len(iv), what, axisTitle(v.Quantity, v.Units))
+	m.Desc = fmt.Sprintf("%s, from their 5th to their 95th percentile, with a dot at their median, sorted by median. "+
+		"The %s%d %s medians run from %s to %s; half of them lie between %s and %s.",
+		line, other, len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
 	return m
 }
 
@@ -151,11 +162,14 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 	st := spreadStrip{Layout: lay.Name}
 	f := frame{Left: lay.Left, Top: spreadPad, Width: lay.PlotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
+	var iv, md strings.Builder
 	for k := 0; k < n; k++ {
 		p5, p50, p95 := at(k)
-		y := f.Top + spreadPad/2 + float64(k)*spreadRowH*2
-		st.Rows = append(st.Rows, spreadRow{X1: clampX(p5), X2: clampX(p95), Y: coord(y), Dot: clampX(p50)})
+		y := coord(f.Top + spreadPad/2 + float64(k)*spreadRowH*2)
+		iv.WriteString("M" + clampX(p5) + " " + y + "H" + clampX(p95))
+		md.WriteString("M" + clampX(p50) + " " + y + "h0")
 	}
+	st.Intervals, st.Medians = iv.String(), md.String()
 	st.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-spread", YTitle: "experts"}
 	tx, ty := lay.Left*5/7, f.Top+f.Height/2
 	st.Axis.YTitleX, st.Axis.YTitleY = coord(tx), coord(ty)

@@ -2,7 +2,6 @@ package chart
 
 import (
 	"math/rand/v2"
-	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -35,7 +34,7 @@ func TestSpreadStructure(t *testing.T) {
 	v, others := spreadInputs(200)
 	html := render(t, Spread(v))
 	checkFinite(t, html)
-	rows := regexp.MustCompile(`<line class="spread-interval" x1="([^"]+)" x2="([^"]+)" y1="([^"]+)" y2="[^"]+"></line><circle class="spread-median" cx="([^"]+)" cy="([^"]+)"`).FindAllStringSubmatch(html, -1)
+	rows := SpreadRows(html)
 	if len(rows) != len(others) {
 		t.Fatalf("%d intervals, want one per other expert (%d)", len(rows), len(others))
 	}
@@ -48,7 +47,7 @@ func TestSpreadStructure(t *testing.T) {
 	}
 	prevDot, prevY := -1.0, -1.0
 	for i, r := range rows {
-		x1, x2, y, dot, cy := num(r[1]), num(r[2]), num(r[3]), num(r[4]), num(r[5])
+		x1, x2, y, dot, cy := num(r[0]), num(r[1]), num(r[2]), num(r[3]), num(r[4])
 		for _, x := range []float64{x1, x2, dot} {
 			if x < wideLayout.Left || x > wideLayout.Left+wideLayout.PlotW {
 				t.Errorf("row %d: x %v outside the plot [%v, %v]", i, x, wideLayout.Left, wideLayout.Left+wideLayout.PlotW)
@@ -110,7 +109,7 @@ func TestSpreadInvalidOthersDrawNoNaN(t *testing.T) {
 	v.Others = append(v.Others, elicit.ScaledBeta{}, sbeta(-1, 2, 0, 1))
 	html := render(t, Spread(v))
 	checkFinite(t, html)
-	if n := strings.Count(html, `class="spread-interval"`); n != 3 {
+	if n := len(SpreadRows(html)); n != 3 {
 		t.Errorf("%d intervals, want 3 (the invalid Betas left out)", n)
 	}
 	v.Others, v.Curves = nil, nil

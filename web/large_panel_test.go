@@ -1,0 +1,138 @@
+package web
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// largePanel seeds a signed-in harness with one quantile question and n
+// experts who each answered it with a reason (invented judgements).
+func seedLargePanel(t *testing.T, n int) (*harness, workshop.Workshop, workshop.Question, []workshop.Revision) {
+	t.Helper()
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Invented: a large panel", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of invented gaskets leak in year one?", Quantity: "Leak share",
+		Units: "proportion", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	var revs []workshop.Revision
+	for i := 0; i < n; i++ {
+		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Panellist %03d", i)}
+		if err := h.db.AddExpert(ctx, &e, []byte("large-"+strconv.Itoa(i))); err != nil {
+			t.Fatal(err)
+		}
+		m := 0.1 + 0.5*float64(i)/float64(n)
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Reason: fmt.Sprintf("Invented reason %03d.", i),
+			Answer: workshop.Answer{Values: []float64{m / 2, m, m + 0.2}}}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rv.Kept = &f
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		revs = append(revs, rv)
+	}
+	return h, ws, q, revs
+}
+
+// TestLargePanelForTheFacilitator: beyond overlayLimit pooled experts the
+// facilitator's panel and the report draw the strip of intervals (one row
+// per expert) under the pool, not one curve per expert; the panel page
+// shows only the latest saves and links to the whole history and to the
+// reasons, which keep their withhold forms on a page of their own.
+func TestLargePanelForTheFacilitator(t *testing.T) {
+	const n = 40
+	h, ws, q, revs := seedLargePanel(t, n)
+	qp := questionPath(ws.ID, q.ID)
+	res, page := h.get(qp)
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("panel: %d", res.StatusCode)
+	}
+	if rows := chart.SpreadRows(page); len(rows) != n {
+		t.Errorf("the panel's strip has %d rows, want one per expert (%d)", len(rows), n)
+	}
+	if c := strings.Count(page, "curve-cdf curve-expert"); c != 0 {
+		t.Errorf("the panel overlays %d expert curves; a large panel should not", c)
+	}
+	for _, want := range []string{"The " + strconv.Itoa(n) + " experts&#39; medians run from", "The experts&#39; medians", `href="` + qp + `/history"`, `href="` + qp + `/reasons"`} {
+		if !strings.Contains(page, want) {
+			t.Errorf("panel lacks %q", want)
+		}
+	}
+	if strings.Contains(page, "other experts&#39; medians") {
+		t.Error("the facilitator's strip speaks of 'other experts'")
+	}
+	if c := strings.Count(page, "Invented reason "); c != historyTail {
+		t.Errorf("the panel page shows %d saves, want the latest %d", c, historyTail)
+	}
+	if !strings.Contains(page, "Invented reason 039.") || strings.Contains(page, "Invented reason 000.") {
+		t.Error("the panel page should show the latest saves, not the first")
+	}
+	if strings.Contains(page, `name="withhold_reason"`) {
+		t.Error("the large panel's page carries the withhold forms; they belong on the reasons page")
+	}
+
+	_, hist := h.get(qp + "/history")
+	if c := strings.Count(hist, "Invented reason "); c != n {
+		t.Errorf("the history page shows %d saves, want all %d", c, n)
+	}
+	_, reasons := h.get(qp + "/reasons")
+	if c := strings.Count(reasons, `name="withhold_reason"`); c != n {
+		t.Errorf("the reasons page has %d withhold forms, want %d", c, n)
+	}
+	// Withholding from the reasons page comes back to it; a refusal is
+	// shown there too.
+	rp := qp + "/reasons/" + strconv.FormatInt(revs[3].ID, 10)
+	res, _ = h.post(rp, url.Values{"action": {"withhold"}, "withhold_reason": {"Names a supplier (invented)."}})
+	if res.StatusCode != http.StatusSeeOther || res.Header.Get("Location") != qp+"/reasons" {
+		t.Errorf("withhold: %d to %q, want 303 to the reasons page", res.StatusCode, res.Header.Get("Location"))
+	}
+	res, body := h.post(rp, url.Values{"action": {"release"}, "withhold_reason": {""}})
+	if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "needs a reason of its own") || !strings.Contains(body, `name="withhold_reason"`) {
+		t.Errorf("a release without a reason: %d; want 422 on the reasons page with the message", res.StatusCode)
+	}
+
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	if rows := chart.SpreadRows(report); len(rows) != n {
+		t.Errorf("the report's strip has %d rows, want %d", len(rows), n)
+	}
+	if c := strings.Count(report, "curve-cdf curve-expert"); c != 0 {
+		t.Errorf("the report overlays %d expert curves", c)
+	}
+	if !strings.Contains(report, "Weights: equal, 2.5% each for the 40 experts pooled.") {
+		t.Error("the report does not state equal weights in one line")
+	}
+}
+
+// TestSmallPanelOverlaysCurves: up to overlayLimit experts every curve is
+// drawn, with names, and the lists stay on the panel page.
+func TestSmallPanelOverlaysCurves(t *testing.T) {
+	h, ws, q, _ := seedLargePanel(t, overlayLimit)
+	qp := questionPath(ws.ID, q.ID)
+	_, page := h.get(qp)
+	if c := strings.Count(page, "curve-cdf curve-expert"); c < overlayLimit {
+		t.Errorf("%d expert curves drawn, want every one of %d", c, overlayLimit)
+	}
+	if chart.SpreadRows(page) != nil {
+		t.Error("a small panel draws the strip")
+	}
+	if c := strings.Count(page, `name="withhold_reason"`); c != overlayLimit {
+		t.Errorf("%d withhold forms on a small panel's page, want %d", c, overlayLimit)
+	}
+}
