@@ -149,12 +149,14 @@ func (p Pool) Validate() error {
 	}
 	var sum float64
 	for i, c := range p.Components {
-		f := fmt.Sprintf("experts[%d]", i)
+		// The field's name is made only for an error: Validate runs on
+		// every density and CDF call of a pool of hundreds.
+		f := func() string { return fmt.Sprintf("experts[%d]", i) }
 		if err := c.Dist.Validate(); err != nil {
-			return prefixField(f, err)
+			return prefixField(f(), err)
 		}
 		if c.Dist.Lower != p.Lower || c.Dist.Upper != p.Upper {
-			return inputErr(f+".lower", RuleSameBounds, "[%v, %v] differs from [%v, %v]", c.Dist.Lower, c.Dist.Upper, p.Lower, p.Upper)
+			return inputErr(f()+".lower", RuleSameBounds, "[%v, %v] differs from [%v, %v]", c.Dist.Lower, c.Dist.Upper, p.Lower, p.Upper)
 		}
 		if math.IsNaN(c.Weight) || math.IsInf(c.Weight, 0) {
 			return inputErr(fmt.Sprintf("weights[%d]", i), RuleFinite, "got %v", c.Weight)

@@ -52,3 +52,13 @@ func (db *DB) Record(ctx context.Context, workshopID int64, now time.Time) (reco
 	}
 	return record.Build(src, now)
 }
+
+// RecordHistory builds the workshop's record without the panels
+// (record.BuildHistory), for the revision and priors CSVs.
+func (db *DB) RecordHistory(ctx context.Context, workshopID int64, now time.Time) (record.Record, error) {
+	src, err := db.Source(ctx, workshopID)
+	if err != nil {
+		return record.Record{}, err
+	}
+	return record.BuildHistory(src, now)
+}

@@ -268,16 +268,7 @@ func previousLabel(q workshop.Question, field string) string {
 // formNumber writes a stored value back into the form as the expert
 // typed it: as a percentage when they typed percentages, never with an
 // exponent.
-func formNumber(v float64, percent bool) string {
-	if percent {
-		v *= 100
-	}
-	s := strconv.FormatFloat(v, 'f', -1, 64)
-	if p, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64); err == nil {
-		s = strconv.FormatFloat(p, 'f', -1, 64) // 0.30000000000000004 → 0.3
-	}
-	return s
-}
+func formNumber(v float64, percent bool) string { return input.Typed(v, percent) }
 
 // shownValue writes a stored value for the expert, as they typed it.
 func typedBack(v float64, percent bool) string {

@@ -5,6 +5,7 @@ import (
 	"context"
 	"fmt"
 	"net/http"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -19,6 +20,12 @@ type recordSourcer interface {
 // record builds the export record of ws with record.Build: every
 // fit and pool recomputed from the stored judgements.
 func (s *Server) record(ctx context.Context, ws workshop.Workshop) (record.Record, error) {
+	return s.buildRecord(ctx, ws, record.Build)
+}
+
+// buildRecord reads the workshop's snapshot and builds it with build
+// (record.Build, or record.BuildHistory where no panel is needed).
+func (s *Server) buildRecord(ctx context.Context, ws workshop.Workshop, build func(workshop.Snapshot, time.Time) (record.Record, error)) (record.Record, error) {
 	var src workshop.Snapshot
 	if rs, ok := s.store.(recordSourcer); ok {
 		var err error
@@ -37,7 +44,7 @@ func (s *Server) record(ctx context.Context, ws workshop.Workshop) (record.Recor
 		src = workshop.Snapshot{Workshop: ws, Questions: d.Questions, Experts: d.Experts,
 			Revisions: d.Revisions, Weights: d.Weights, Priors: d.Priors, Events: evs}
 	}
-	return record.Build(src, s.now())
+	return build(src, s.now())
 }
 
 // exportRecord downloads the workshop's record, or one question's, as
@@ -50,7 +57,13 @@ func (s *Server) exportRecord(format string, perQuestion bool) http.HandlerFunc 
 			return
 		}
 		name := fmt.Sprintf("parley-workshop-%d", ws.ID)
-		rec, err := s.record(r.Context(), ws)
+		// The revision CSV and the priors CSV need no panel: no pool is
+		// formed for them.
+		build := record.Build
+		if format != "json" {
+			build = record.BuildHistory
+		}
+		rec, err := s.buildRecord(r.Context(), ws, build)
 		if err != nil {
 			s.fail(w, r, err)
 			return

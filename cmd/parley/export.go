@@ -36,7 +36,11 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return fail(stderr, "export", err)
 	}
 	defer db.Close()
-	rec, err := db.Record(context.Background(), *workshopID, time.Now())
+	build := db.Record
+	if *format != "json" {
+		build = db.RecordHistory // the CSVs need no pool
+	}
+	rec, err := build(context.Background(), *workshopID, time.Now())
 	if errors.Is(err, workshop.ErrNotFound) {
 		return fail(stderr, "export", badInput("workshop", "no workshop %d in %s", *workshopID, *dbPath))
 	}

@@ -86,3 +86,18 @@ func Numbers(field, raw string) ([]float64, error) {
 	}
 	return out, nil
 }
+
+// Typed writes a stored number back the way a person typed it: as a
+// percentage (v·100) when percent, in plain decimal notation, rounded to
+// 12 significant digits so the binary noise of the conversion does not
+// show (0.07·100 is 7, not 7.000000000000001). Number reads it back to
+// the same value within that rounding.
+func Typed(v float64, percent bool) string {
+	if percent {
+		v *= 100
+	}
+	if p, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64); err == nil {
+		v = p
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -15,11 +16,17 @@ var csvHeader = []string{
 	"workshop_id", "workshop", "question_id", "question", "expert_id", "expert",
 	"revision_id", "round", "at", "entered_by", "channel", "reason", "format", "stated",
 	"alpha", "beta", "lower", "upper", "sse", "max_prob_error", "p05", "p50", "p95", "warnings",
+	"units", "stated_as_typed", "typed_unit",
 }
 
 // WriteCSV writes one row per revision, oldest first. Stated values are
 // listed in the question's order, separated by spaces; for the interval
-// format they are lowest, highest, best, confidence. Text that a
+// format they are lowest, highest, best, confidence. "stated" holds them
+// on the question's scale with the confidence as a probability (0.8);
+// "stated_as_typed" holds them as the expert typed them, percentages as
+// percentages and the confidence in percent (80), and "typed_unit" names
+// their unit ("%" or the question's units; for the interval format also
+// the confidence's). The question's units are in "units". Text that a
 // spreadsheet would run as a formula is prefixed with an apostrophe.
 func (r Record) WriteCSV(w io.Writer) error {
 	questions := map[int64]workshop.Question{}
@@ -55,6 +62,8 @@ func (r Record) WriteCSV(w io.Writer) error {
 			row = append(row, make([]string, 9)...)
 			row = append(row, cell(rv.FitError))
 		}
+		typed, unit := asTyped(q, rv.Answer)
+		row = append(row, cell(q.Units), typed, cell(unit))
 		if err := cw.Write(row); err != nil {
 			return err
 		}
@@ -75,6 +84,33 @@ func stated(f workshop.AnswerFormat, a workshop.Answer) string {
 		return strings.Join(parts, " ")
 	}
 	return strings.Join(floats(a.Values...), " ")
+}
+
+// asTyped is an answer's values as the expert typed them, separated by
+// spaces, and their unit.
+func asTyped(q workshop.Question, a workshop.Answer) (values, unit string) {
+	unit = q.Units
+	if a.Percent {
+		unit = "%"
+	}
+	typed := func(xs ...float64) []string {
+		out := make([]string, len(xs))
+		for i, x := range xs {
+			out[i] = input.Typed(x, a.Percent)
+		}
+		return out
+	}
+	switch q.Format {
+	case workshop.FormatInterval:
+		vs := append(typed(a.Lowest, a.Highest, a.Best), input.Typed(a.Confidence, true))
+		if unit == "" {
+			return strings.Join(vs, " "), "confidence in %"
+		}
+		return strings.Join(vs, " "), unit + "; confidence in %"
+	case workshop.FormatChips:
+		return stated(q.Format, a), "chips per bin"
+	}
+	return strings.Join(typed(a.Values...), " "), unit
 }
 
 func floats(xs ...float64) []string {
