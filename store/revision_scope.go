@@ -3,7 +3,6 @@ package store
 import (
 	"context"
 	"database/sql"
-	"encoding/json"
 	"fmt"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -69,7 +68,7 @@ func scanRevisions(rows *sql.Rows, err error) ([]workshop.Revision, error) {
 		}
 		if kept.Valid {
 			var f elicit.Fit
-			if err := json.Unmarshal([]byte(kept.String), &f); err != nil {
+			if err := decodeJSON(kept.String, &f); err != nil {
 				return nil, fmt.Errorf("store: revision %d: kept fit: %w", r.ID, err)
 			}
 			r.Kept = &f

@@ -1,11 +1,12 @@
 package main
 
 import (
-	"bytes"
+	"bufio"
 	"context"
 	"errors"
 	"io"
 	"os"
+	"path/filepath"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -52,25 +53,58 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 			return fail(stderr, "export", badInput("question", "no question %d in workshop %d", *question, *workshopID))
 		}
 	}
-	var buf bytes.Buffer
-	switch *format {
-	case "csv":
-		err = rec.WriteCSV(&buf)
-	case "priors":
-		err = rec.WritePriorsCSV(&buf)
-	default:
-		err = rec.WriteJSON(&buf)
-	}
-	if err != nil {
-		return fail(stderr, "export", err)
+	write := func(w io.Writer) error {
+		switch *format {
+		case "csv":
+			return rec.WriteCSV(w)
+		case "priors":
+			return rec.WritePriorsCSV(w)
+		}
+		return rec.WriteJSON(w)
 	}
 	if *out == "" {
-		_, err = stdout.Write(buf.Bytes())
+		err = writeBuffered(stdout, write)
 	} else {
-		err = os.WriteFile(*out, buf.Bytes(), 0o644)
+		err = writeFileAtomic(*out, write)
 	}
 	if err != nil {
 		return fail(stderr, "export", err)
 	}
 	return exitOK
+}
+
+// writeBuffered streams write's output to w through a buffer: a record of
+// a large panel is never held whole in memory.
+func writeBuffered(w io.Writer, write func(io.Writer) error) error {
+	bw := bufio.NewWriterSize(w, 64<<10)
+	if err := write(bw); err != nil {
+		return err
+	}
+	return bw.Flush()
+}
+
+// writeFileAtomic streams write's output to a new file beside path and
+// renames it over path once it is complete, so a failed export never
+// leaves a partial file behind.
+func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
+	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*")
+	if err != nil {
+		return err
+	}
+	defer func() {
+		if err != nil {
+			f.Close()
+			os.Remove(f.Name())
+		}
+	}()
+	if err = writeBuffered(f, write); err != nil {
+		return err
+	}
+	if err = f.Chmod(0o644); err != nil {
+		return err
+	}
+	if err = f.Close(); err != nil {
+		return err
+	}
+	return os.Rename(f.Name(), path)
 }

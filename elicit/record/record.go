@@ -1,7 +1,6 @@
 package record
 
 import (
-	"bytes"
 	"errors"
 	"fmt"
 	"io"
@@ -413,11 +412,9 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 // same bytes, which TestWriteJSONMatchesEncodingJSON checks against
 // encoding/json itself.
 func (r Record) WriteJSON(w io.Writer) error {
-	var buf bytes.Buffer
-	if err := jsonv2.MarshalWrite(&buf, r, jsonv1.DefaultOptionsV1(), jsontext.WithIndent("  ")); err != nil {
+	if err := jsonv2.MarshalWrite(w, r, jsonv1.DefaultOptionsV1(), jsontext.WithIndent("  ")); err != nil {
 		return err
 	}
-	buf.WriteByte('\n') // as json.Encoder ends a value
-	_, err := buf.WriteTo(w)
+	_, err := io.WriteString(w, "\n") // as json.Encoder ends a value
 	return err
 }
