@@ -1,0 +1,88 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"strconv"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web"
+)
+
+// TestLargePanelPages opens a 60-expert question as the facilitator at a
+// phone's width and at a projector's: the question, its reasons, its
+// whole history and the report fit the screen, pass axe-core, and draw
+// the strip of intervals, one row per expert (invented panel).
+func TestLargePanelPages(t *testing.T) {
+	const n = 60
+	s := startSite(t)
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Invented: a large reliability panel", Invented: true,
+		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
+	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
+		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	if err := s.DB.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < n; i++ {
+		_, hash, err := web.NewExpertToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
+		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		m := 0.04 + 0.2*float64(i)/n
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
+			Reason: fmt.Sprintf("Invented: field returns of a similar seal, site %d.", i+1)}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rv.Kept = &f
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	axe := axeSource(t)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	base := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
+	qp := base + "/q/" + strconv.FormatInt(q.ID, 10)
+	for _, pg := range []struct{ name, url string }{
+		{"large-panel", qp}, {"large-panel-reasons", qp + "/reasons"}, {"large-panel-history", qp + "/history"}, {"large-panel-report", base + "/report"},
+	} {
+		for _, w := range []int64{390, 1366} {
+			fac.viewport(w, 844, w < 600)
+			if st := fac.open(pg.url); st != http.StatusOK {
+				t.Errorf("%s: status %d", pg.name, st)
+				continue
+			}
+			fits(t, fac, pg.name, w)
+			accessible(t, fac, axe, fmt.Sprintf("%s at %d px", pg.name, w))
+			shots.take(fac, fmt.Sprintf("%s-%d", pg.name, w))
+			if pg.name == "large-panel" || pg.name == "large-panel-report" {
+				// One interval per expert in each layout's strip.
+				if got := fac.count(".spread-intervals"); got != 2 {
+					t.Errorf("%s at %d px: %d strips, want the wide and the compact one", pg.name, w, got)
+				}
+				rows := eval[int](fac, "rows of the shown strip", `Array.from(document.querySelectorAll("path.spread-intervals")).filter(p => p.getClientRects().length).map(p => (p.getAttribute("d").match(/M/g) || []).length)[0] || 0`)
+				if rows != n {
+					t.Errorf("%s at %d px: the visible strip has %d rows, want %d", pg.name, w, rows, n)
+				}
+			}
+		}
+	}
+	fac.viewport(1366, 844, false)
+	fac.open(qp)
+	fac.sees("the large panel", "The 60 experts", "The whole history", "Read them and withhold any that names a person")
+}
