@@ -130,7 +130,7 @@ func TestBetaEnvelopeAgainstR(t *testing.T) {
 			}
 			f := d.PDF(r.value)
 			tail := math.Min(r.p, 1-r.p)
-			kappa := tail / (math.Min(r.value, 1-r.value) * f)
+			var kappa float64
 			if upper {
 				kappa = tail / ((1 - r.value) * f)
 			} else {

@@ -46,7 +46,10 @@ func brentRoot(f func(float64) float64, a, b, fa, fb, xtol float64) (x float64, 
 			if a == c {
 				p, q = 2*m*s, 1-s
 			} else {
-				q, r := fa/fc, fb/fc
+				// Inverse quadratic interpolation (Brent 1973, ch. 4):
+				// q is assigned, not declared, so the step below sees it.
+				var r float64
+				q, r = fa/fc, fb/fc
 				p = s * (2*m*q*(q-r) - (b-a)*(r-1))
 				q = (q - 1) * (r - 1) * (s - 1)
 			}

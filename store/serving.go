@@ -61,7 +61,10 @@ func ClaimServing(path string) (*ServingClaim, error) {
 		}
 		return nil, fmt.Errorf("store: lock %s: %w", lock, err)
 	}
-	if err := f.Truncate(0); err == nil {
+	// A failure to write our process id is a failure to claim: the
+	// write's error is the one checked.
+	err = f.Truncate(0)
+	if err == nil {
 		_, err = f.WriteAt([]byte(strconv.Itoa(os.Getpid())+"\n"), 0)
 	}
 	if err != nil {

@@ -318,15 +318,6 @@ func postForm(ctx context.Context, c *http.Client, base, path string, form url.V
 	return do(c, req)
 }
 
-// get fetches base+path.
-func get(ctx context.Context, c *http.Client, base, path string) (int, string, error) {
-	req, err := http.NewRequestWithContext(ctx, http.MethodGet, base+path, nil)
-	if err != nil {
-		return 0, "", err
-	}
-	return do(c, req)
-}
-
 func do(c *http.Client, req *http.Request) (int, string, error) {
 	res, err := c.Do(req)
 	if err != nil {

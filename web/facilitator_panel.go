@@ -217,7 +217,6 @@ type panelForms struct {
 	// own for a large panel: "reasons" or "history".
 	page                             string
 	weights, agree, retire, withhold *Form
-	withholdFor                      int64 // the revision whose withhold form is shown again
 }
 
 // showPanelWith renders the panel with forms to show again.

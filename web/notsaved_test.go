@@ -107,6 +107,9 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	if strings.Contains(page, "Correct the marked fields") || strings.Contains(page, "Server error") {
 		t.Error("the expert's page blames the fields or shows the generic error")
 	}
+	if h.counts(ws.ID) != before {
+		t.Error("the expert's refused save wrote something")
+	}
 
 	// The facilitator's forms.
 	wp := workshopPath(ws.ID)

@@ -146,13 +146,13 @@ var linkPattern = regexp.MustCompile(`/e/([A-Za-z0-9_-]{43})/`)
 // once on the page.
 func (h *harness) addExpert(ws workshop.Workshop, name string) (workshop.Expert, string) {
 	h.t.Helper()
-	res, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "affiliation": {"Invented Co."}})
+	res, _ := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "affiliation": {"Invented Co."}})
 	if res.StatusCode != http.StatusSeeOther {
 		h.t.Fatalf("add expert: %d", res.StatusCode)
 	}
 	// The link is shown on the page the facilitator is sent to, so a
 	// reload adds nobody.
-	res, body = h.get(res.Header.Get("Location"))
+	res, body := h.get(res.Header.Get("Location"))
 	if res.StatusCode != http.StatusOK {
 		h.t.Fatalf("add expert: the link page answers %d", res.StatusCode)
 	}
