@@ -4,12 +4,14 @@ import (
 	"context"
 	"fmt"
 	"io"
+	"net/url"
+	"strings"
 
 	"github.com/parley-elicit/parley/web"
 )
 
 func init() {
-	command("facilitator-reset", "issue a new one-time facilitator sign-in address; signs every browser out unless --keep-signed-in (--db, --addr)", runFacilitatorReset)
+	command("facilitator-reset", "issue a new one-time facilitator sign-in address; signs every browser out unless --keep-signed-in (--db, --addr or --base-url)", runFacilitatorReset)
 }
 
 // runFacilitatorReset replaces the facilitator secret: the new sign-in
@@ -19,9 +21,18 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 	fs := newFlags("facilitator-reset", stderr)
 	dbPath := fs.String("db", "", "database `file`")
 	addr := fs.String("addr", "127.0.0.1:8080", "`host:port` the server listens on, for the printed address")
+	base := fs.String("base-url", "", "the server's address as browsers reach it, e.g. https://192.168.1.20:8443 when it serves TLS (default: http:// and --addr)")
 	keep := fs.Bool("keep-signed-in", false, "leave browsers already signed in signed in (default: sign them all out)")
 	if err := fs.Parse(args); err != nil {
 		return exitBadInput
+	}
+	printed := "http://" + *addr
+	if *base != "" {
+		u, err := url.Parse(*base)
+		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" || strings.Trim(u.Path, "/") != "" || u.RawQuery != "" || u.Fragment != "" {
+			return fail(stderr, "facilitator-reset", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", *base))
+		}
+		printed = u.Scheme + "://" + u.Host
 	}
 	db, err := openExisting(*dbPath)
 	if err != nil {
@@ -37,6 +48,6 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 		return fail(stderr, "facilitator-reset", err)
 	}
 	fmt.Fprintf(stdout, "parley: new facilitator secret set; any earlier sign-in address stops working, and %s.\n", ended)
-	fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): http://%s%s\n", *addr, web.SignInPath(secret))
+	fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): %s%s\n", printed, web.SignInPath(secret))
 	return exitOK
 }

@@ -233,6 +233,22 @@ func TestFacilitatorReset(t *testing.T) {
 	if h, _ := db.FacilitatorHash(ctx); string(h) == "old hash" || len(h) == 0 {
 		t.Fatalf("hash not replaced: %q", h)
 	}
+	// Under TLS the address is the one browsers reach: --base-url.
+	out.Reset()
+	if code := runFacilitatorReset([]string{"--db", dbPath, "--base-url", "https://192.0.2.1:8443/"}, nil, &out, &errOut); code != exitOK ||
+		!regexp.MustCompile(`https://192\.0\.2\.1:8443/signin#[A-Za-z0-9_-]{43}\n`).MatchString(out.String()) {
+		t.Fatalf("--base-url https: exit %d: %q", code, out.String())
+	}
+	for _, bad := range []string{"ftp://host:1", "192.0.2.1:8443", "https://", "https://host:1/path"} {
+		errOut.Reset()
+		before, _ := db.FacilitatorHash(ctx)
+		if code := runFacilitatorReset([]string{"--db", dbPath, "--base-url", bad}, nil, &out, &errOut); code != exitBadInput || !strings.Contains(errOut.String(), "base-url") {
+			t.Errorf("--base-url %q: exit %d, %q; want 2 naming the flag", bad, code, errOut.String())
+		}
+		if after, _ := db.FacilitatorHash(ctx); string(after) != string(before) {
+			t.Errorf("--base-url %q: the secret changed though the input was refused", bad)
+		}
+	}
 	// --keep-signed-in leaves a signed-in browser signed in; without it
 	// every session ends.
 	check(t, db.CreateSession(ctx, []byte("open session"), time.Now().Add(time.Hour)))
