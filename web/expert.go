@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"crypto/hmac"
 	"crypto/sha256"
 	"encoding/hex"
@@ -447,7 +448,7 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	if n := len(sc.own); n > 0 {
 		cur := sc.own[n-1]
 		typed = answerValues(sc.question, cur.Answer)
-		if fit, err := fits.fit(sc.question, cur); err == nil {
+		if fit, err := s.fits.fit(sc.question, cur); err == nil {
 			preview = newPreview(sc.question, fit, cur.Answer.Percent)
 		}
 	}
@@ -620,7 +621,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		}
 	}
 	for i := len(sc.own) - 1; i >= 0; i-- {
-		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
+		v.History = append(v.History, s.newHistoryRow(q, sc.own[i]))
 	}
 	if n := len(sc.own); n > 0 && sc.own[n-1].EnteredBy == workshop.ByFacilitator {
 		cur := sc.own[n-1]
@@ -632,13 +633,13 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	return v
 }
 
-func newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
+func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
 		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
 	if rv.EnteredBy == workshop.ByFacilitator {
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
-	if fit, err := fits.fit(q, rv); err == nil {
+	if fit, err := s.fits.fit(q, rv); err == nil {
 		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
 	}
 	return h
@@ -755,7 +756,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	q := sc.question
 	var own *elicit.ScaledBeta
 	if n := len(sc.own); n > 0 {
-		if fit, err := fits.fit(q, sc.own[n-1]); err == nil {
+		if fit, err := s.fits.fit(q, sc.own[n-1]); err == nil {
 			d := fit.Dist
 			own = &d
 		}
@@ -866,15 +867,18 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	}
 	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
-		revs, err := s.store.LatestRevisions(r.Context(), q.ID, through)
+		// Other requests may be waiting on this computation: an expert
+		// closing their page must not fail the others' panels.
+		ctx := context.WithoutCancel(r.Context())
+		revs, err := s.store.LatestRevisions(ctx, q.ID, through)
 		if err != nil {
 			return nil, err
 		}
-		experts, err := s.store.Experts(r.Context(), ws.ID)
+		experts, err := s.store.Experts(ctx, ws.ID)
 		if err != nil {
 			return nil, err
 		}
-		salt, err := s.store.PanelSalt(r.Context(), ws.ID)
+		salt, err := s.store.PanelSalt(ctx, ws.ID)
 		if err != nil {
 			return nil, err
 		}
@@ -887,7 +891,7 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 			experts[i].Revoked = gone[experts[i].ID]
 		}
 		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: experts, Revisions: revs,
-			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: fits.fit})
+			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: s.fits.fit})
 		return newFeedback(panel, salt), nil
 	})
 	if err != nil {

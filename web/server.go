@@ -49,6 +49,8 @@ type Server struct {
 	handler http.Handler
 	// feedbacks remembers each question's round feedback (see feedbackFor).
 	feedbacks *memo.Memo[feedbackKey, *feedback]
+	// fits serves revisions' fits (fitcache.go).
+	fits *fitCache
 	// turns bounds the expert handlers running at once to the CPUs and
 	// puts previews and saves before pages (turns.go).
 	turns *turns
@@ -74,6 +76,7 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
+		fits:  newFitCache(fitCacheSize),
 		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {

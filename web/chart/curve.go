@@ -112,9 +112,9 @@ type curveSpan struct {
 func (c Curve) span(lower, upper float64) curveSpan {
 	switch {
 	case !c.usesFuncs():
-		return spans.Get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+		return remembered.spans.Get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
 	case len(c.Components) > 0:
-		return mixSpans.Get(mixKey{fingerprint(c.Components), lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+		return remembered.mixSpans.Get(mixKey{fingerprint(c.Components), lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
 	}
 	return c.computeSpan(lower, upper)
 }
@@ -178,9 +178,9 @@ func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
 func (c Curve) sample(xs []float64, x0, x1 float64) sampled {
 	switch {
 	case !c.usesFuncs():
-		return samples.Get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
+		return remembered.samples.Get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
 	case len(c.Components) > 0:
-		return mixSamples.Get(mixKey{fingerprint(c.Components), x0, x1}, func() sampled { return c.sumComponents(xs, x0, x1) })
+		return remembered.mixSamples.Get(mixKey{fingerprint(c.Components), x0, x1}, func() sampled { return c.sumComponents(xs, x0, x1) })
 	}
 	return evaluate(c, xs)
 }

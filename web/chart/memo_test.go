@@ -96,11 +96,7 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	b := append([]elicit.ScaledBeta(nil), a...)
 	b[1] = sbeta(3.5, 5, 0, 1) // one expert revises; the window barely moves
 	changed := newPanelModel(panelOf(t, true, b...))
-	spans.Reset()
-	samples.Reset()
-	drawn.Reset()
-	mixSpans.Reset()
-	mixSamples.Reset()
+	remembered.reset()
 	fresh := newPanelModel(panelOf(t, true, b...))
 	if !reflect.DeepEqual(changed, fresh) {
 		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
@@ -112,7 +108,7 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	if changed.Drawings[0].Twin.Lines[pool].Cumul == first.Drawings[0].Twin.Lines[pool].Cumul || changed.Drawings[0].Twin.Lines[pool].Density == first.Drawings[0].Twin.Lines[pool].Density {
 		t.Error("the pool of the revised panel is the pool remembered from before the revision")
 	}
-	if mixSpans.Len() == 0 || mixSamples.Len() == 0 {
+	if remembered.mixSpans.Len() == 0 || remembered.mixSamples.Len() == 0 {
 		t.Error("the pool's span and samples were not remembered")
 	}
 }
@@ -163,12 +159,12 @@ func TestPoolWindowIsShared(t *testing.T) {
 			{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantiles: pool.Quantiles, Components: pool.Components},
 		}})
 	}
-	mixSamples.Reset()
+	remembered.mixSamples.Reset()
 	a, b := draw(sbeta(2.1, 8, 0, 1)), draw(sbeta(2.2, 8.3, 0, 1))
 	if a.Drawings[0].Twin.X0 != b.Drawings[0].Twin.X0 || a.Drawings[0].Twin.X1 != b.Drawings[0].Twin.X1 {
 		t.Errorf("windows [%v, %v] and [%v, %v] differ for nearly equal own curves", a.Drawings[0].Twin.X0, a.Drawings[0].Twin.X1, b.Drawings[0].Twin.X0, b.Drawings[0].Twin.X1)
 	}
-	if n := mixSamples.Len(); n != 1 {
+	if n := remembered.mixSamples.Len(); n != 1 {
 		t.Errorf("the pool was sampled for %d windows, want 1", n)
 	}
 }

@@ -199,7 +199,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 		if c.usesFuncs() {
 			p = draw()
 		} else {
-			p = drawn.Get(pathKey{c.Dist, x0, x1, top, area, lay.Name}, draw)
+			p = remembered.drawn.Get(pathKey{c.Dist, x0, x1, top, area, lay.Name}, draw)
 		}
 		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: p.density, Cumul: p.cumul, Area: p.area,
 			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
