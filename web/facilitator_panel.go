@@ -142,9 +142,7 @@ func (st questionState) chartView() chart.PanelView {
 		}
 	}
 	if st.Pool != nil {
-		p := st.Pool
-		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF,
-			Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components})
+		v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: *st.Pool}})
 	}
 	if a := st.current(); a != nil {
 		v.Curves = append(v.Curves, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})

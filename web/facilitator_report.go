@@ -63,7 +63,7 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert) chart.Pan
 			dists, weights = append(dists, d), append(weights, ew.Weight)
 		}
 		if pool, err := elicit.LinearPool(dists, weights); err == nil {
-			v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile})
+			v.Curves = append(v.Curves, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: pool}})
 		}
 	}
 	if a := q.AgreedPrior; a != nil {

@@ -50,10 +50,10 @@ type paths struct {
 	clipped              bool
 }
 
-// mixKey is a mixture with Components, by the fingerprint of its
+// mixKey is a Mixture, by the fingerprint of its
 // components, over a window: [a, b] is the question's bounds for its
 // span and the drawn window for its samples. A mixture's PDF, CDF and
-// quantiles are functions of its components (Curve's contract), so the
+// quantiles are functions of its components (Mixture's contract), so the
 // fingerprint stands for the whole curve.
 type mixKey struct {
 	components [sha256.Size]byte

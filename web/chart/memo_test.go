@@ -24,9 +24,11 @@ func panelOf(t testing.TB, withComponents bool, dists ...elicit.ScaledBeta) Pane
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := Curve{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles}
+	// elicit.Pool is a Distribution with Quantiles; chart.Pool adds its
+	// components (Mixture).
+	c := Curve{Label: "Pool", Role: RolePool, Dist: pool}
 	if withComponents {
-		c.Components = pool.Components
+		c.Dist = Pool{pool}
 	}
 	v.Curves = append(v.Curves, c)
 	return v
@@ -156,7 +158,7 @@ func TestPoolWindowIsShared(t *testing.T) {
 	draw := func(own elicit.ScaledBeta) panelModel {
 		return newPanelModel(PanelView{ID: "p", Quantity: "Failure share", Lower: 0, Upper: 1, Curves: []Curve{
 			{Label: "You", Role: RoleExpert, Dist: own},
-			{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantiles: pool.Quantiles, Components: pool.Components},
+			{Label: "Pool", Role: RolePool, Dist: Pool{pool}},
 		}})
 	}
 	remembered.mixSamples.Reset()
