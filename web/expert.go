@@ -20,6 +20,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/internal/turns"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -332,10 +333,10 @@ func describedBy(f formField) templ.Attributes {
 // revision id ever appears in these URLs.
 func (s *Server) expertRoutes(r chi.Router) {
 	// Previews and saves go before pages when the server is busy (turns.go).
-	r.Get("/", s.inTurn(pagePriority, s.expertHomePage))
-	r.Get("/q/{qid}", s.inTurn(pagePriority, s.expertQuestionPage))
-	r.Post("/q/{qid}/preview", s.inTurn(interactivePriority, s.expertPreviewPost))
-	r.Post("/q/{qid}/save", s.inTurn(interactivePriority, s.expertSavePost))
+	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
+	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
+	r.Post("/q/{qid}/preview", s.inTurn(turns.Interactive, s.expertPreviewPost))
+	r.Post("/q/{qid}/save", s.inTurn(turns.Interactive, s.expertSavePost))
 }
 
 func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }
@@ -553,10 +554,10 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	}
 	rev := workshop.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a, Kept: &fit}
 	// The write waits on the disk, not on a CPU: previews go on meanwhile.
-	stepAway(r)
+	turns.StepAway(r.Context())
 	err = s.store.SaveRevision(r.Context(), &rev)
 	if err != nil {
-		if !stepBack(r) {
+		if !turns.StepBack(r.Context()) {
 			return
 		}
 		if errors.Is(err, workshop.ErrRoundClosed) {

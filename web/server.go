@@ -23,6 +23,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/internal/memo"
+	"github.com/parley-elicit/parley/internal/turns"
 )
 
 // Options configure a Server. The zero value works: links are printed
@@ -52,8 +53,8 @@ type Server struct {
 	// fits serves revisions' fits (fitcache.go).
 	fits *fitCache
 	// turns bounds the expert handlers running at once to the CPUs and
-	// puts previews and saves before pages (turns.go).
-	turns *turns
+	// puts previews and saves before pages (internal/turns, turns.go).
+	turns *turns.Turns
 	// reasonGen moves on whenever a reason is withheld or shown again, so
 	// that the remembered feedback is read afresh (feedbackKey).
 	reasonGen atomic.Uint64
@@ -77,7 +78,7 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
-		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now
