@@ -9,7 +9,6 @@ import (
 	"fmt"
 	"math"
 	"net/http"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -439,11 +438,6 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	// Go's scheduler has no priorities: once running, a page would keep
-	// its CPU until done while the goroutines that read and answer
-	// previews and saves wait for one. The page lets them run first
-	// between its parts.
-	runtime.Gosched()
 	var typed map[string]string
 	var preview *previewView
 	if n := len(sc.own); n > 0 {
@@ -462,7 +456,6 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	runtime.Gosched()
 	s.renderQuestion(w, r, http.StatusOK, sc, v)
 }
 
