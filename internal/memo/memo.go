@@ -46,7 +46,8 @@ func (m *Memo[K, V]) Get(k K, compute func() V) V {
 
 // GetErr is Get for a computation that can fail: an error is returned
 // (to every caller that waited on the same computation) and nothing is
-// remembered, so the next call computes again.
+// remembered, so the next call computes again. A computation must not
+// ask the memo for its own key: it would wait on itself.
 func (m *Memo[K, V]) GetErr(k K, compute func() (V, error)) (V, error) {
 	for {
 		m.mu.Lock()
