@@ -20,12 +20,10 @@ import (
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 
+	"github.com/parley-elicit/parley/internal/browsertest"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
-
-// chromiumPath is Debian's chromium, which .ci/run installs.
-const chromiumPath = "/usr/bin/chromium"
 
 // Time limits. Every browser step runs under stepTimeout so a broken page
 // fails the test instead of hanging it; the whole browser lives under
@@ -92,39 +90,11 @@ type browser struct {
 	root context.Context
 }
 
-// startBrowser starts chromium with the flags this machine's closed
-// network needs. It skips the test, loudly, when chromium is missing.
+// startBrowser starts chromium (internal/browsertest). It skips the
+// test, loudly, when chromium is missing.
 func startBrowser(t *testing.T) *browser {
 	t.Helper()
-	if _, err := os.Stat(chromiumPath); err != nil {
-		t.Skipf("SKIPPING BROWSER TESTS: %s not found (%v). Install it with `apt-get install -y chromium`; .ci/run does.", chromiumPath, err)
-	}
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromiumPath),
-		chromedp.Headless,
-		chromedp.NoSandbox, // CI runs as root
-		chromedp.DisableGPU,
-		chromedp.NoFirstRun,
-		chromedp.Flag("no-default-browser-check", true),
-		chromedp.Flag("disable-quic", true),
-		chromedp.Flag("disable-background-networking", true),
-		chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true),
-		chromedp.Flag("disable-extensions", true),
-		chromedp.Flag("disable-dev-shm-usage", true),
-		chromedp.Flag("hide-scrollbars", true),
-		chromedp.Flag("mute-audio", true),
-		chromedp.UserDataDir(t.TempDir()),
-		chromedp.WindowSize(desktopWidth, desktopHeight),
-	}
-	life, cancelLife := context.WithTimeout(context.Background(), browserTimeout)
-	alloc, cancelAlloc := chromedp.NewExecAllocator(life, opts...)
-	root, cancelRoot := chromedp.NewContext(alloc)
-	t.Cleanup(func() { cancelRoot(); cancelAlloc(); cancelLife() })
-	if err := chromedp.Do(root, chromedp.Navigate("about:blank")); err != nil {
-		t.Fatalf("start chromium: %v", err)
-	}
-	return &browser{t: t, root: root}
+	return &browser{t: t, root: browsertest.Start(t, browserTimeout, desktopWidth, desktopHeight)}
 }
 
 // person is one participant's browser context and tab.

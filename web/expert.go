@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"crypto/hmac"
 	"crypto/sha256"
 	"encoding/hex"
@@ -8,7 +9,6 @@ import (
 	"fmt"
 	"math"
 	"net/http"
-	"runtime"
 	"sort"
 	"strconv"
 	"strings"
@@ -19,6 +19,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/internal/turns"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -331,10 +332,10 @@ func describedBy(f formField) templ.Attributes {
 // revision id ever appears in these URLs.
 func (s *Server) expertRoutes(r chi.Router) {
 	// Previews and saves go before pages when the server is busy (turns.go).
-	r.Get("/", s.inTurn(pagePriority, s.expertHomePage))
-	r.Get("/q/{qid}", s.inTurn(pagePriority, s.expertQuestionPage))
-	r.Post("/q/{qid}/preview", s.inTurn(interactivePriority, s.expertPreviewPost))
-	r.Post("/q/{qid}/save", s.inTurn(interactivePriority, s.expertSavePost))
+	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
+	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
+	r.Post("/q/{qid}/preview", s.inTurn(turns.Interactive, s.expertPreviewPost))
+	r.Post("/q/{qid}/save", s.inTurn(turns.Interactive, s.expertSavePost))
 }
 
 func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }
@@ -437,17 +438,12 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	// Go's scheduler has no priorities: once running, a page would keep
-	// its CPU until done while the goroutines that read and answer
-	// previews and saves wait for one. The page lets them run first
-	// between its parts.
-	runtime.Gosched()
 	var typed map[string]string
 	var preview *previewView
 	if n := len(sc.own); n > 0 {
 		cur := sc.own[n-1]
 		typed = answerValues(sc.question, cur.Answer)
-		if fit, err := fits.fit(sc.question, cur); err == nil {
+		if fit, err := s.fits.fit(sc.question, cur); err == nil {
 			preview = newPreview(sc.question, fit, cur.Answer.Percent)
 		}
 	}
@@ -460,7 +456,6 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 	}
-	runtime.Gosched()
 	s.renderQuestion(w, r, http.StatusOK, sc, v)
 }
 
@@ -552,10 +547,10 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	}
 	rev := workshop.Revision{QuestionID: sc.question.ID, ExpertID: sc.expert.ID, Reason: reason, Answer: a, Kept: &fit}
 	// The write waits on the disk, not on a CPU: previews go on meanwhile.
-	stepAway(r)
+	turns.StepAway(r.Context())
 	err = s.store.SaveRevision(r.Context(), &rev)
 	if err != nil {
-		if !stepBack(r) {
+		if !turns.StepBack(r.Context()) {
 			return
 		}
 		if errors.Is(err, workshop.ErrRoundClosed) {
@@ -620,7 +615,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		}
 	}
 	for i := len(sc.own) - 1; i >= 0; i-- {
-		v.History = append(v.History, newHistoryRow(q, sc.own[i]))
+		v.History = append(v.History, s.newHistoryRow(q, sc.own[i]))
 	}
 	if n := len(sc.own); n > 0 && sc.own[n-1].EnteredBy == workshop.ByFacilitator {
 		cur := sc.own[n-1]
@@ -632,13 +627,13 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	return v
 }
 
-func newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
+func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
 		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
 	if rv.EnteredBy == workshop.ByFacilitator {
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
-	if fit, err := fits.fit(q, rv); err == nil {
+	if fit, err := s.fits.fit(q, rv); err == nil {
 		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
 	}
 	return h
@@ -755,7 +750,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	q := sc.question
 	var own *elicit.ScaledBeta
 	if n := len(sc.own); n > 0 {
-		if fit, err := fits.fit(q, sc.own[n-1]); err == nil {
+		if fit, err := s.fits.fit(q, sc.own[n-1]); err == nil {
 			d := fit.Dist
 			own = &d
 		}
@@ -866,15 +861,18 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	}
 	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
-		revs, err := s.store.LatestRevisions(r.Context(), q.ID, through)
+		// Other requests may be waiting on this computation: an expert
+		// closing their page must not fail the others' panels.
+		ctx := context.WithoutCancel(r.Context())
+		revs, err := s.store.LatestRevisions(ctx, q.ID, through)
 		if err != nil {
 			return nil, err
 		}
-		experts, err := s.store.Experts(r.Context(), ws.ID)
+		experts, err := s.store.Experts(ctx, ws.ID)
 		if err != nil {
 			return nil, err
 		}
-		salt, err := s.store.PanelSalt(r.Context(), ws.ID)
+		salt, err := s.store.PanelSalt(ctx, ws.ID)
 		if err != nil {
 			return nil, err
 		}
@@ -887,7 +885,7 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 			experts[i].Revoked = gone[experts[i].ID]
 		}
 		panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: experts, Revisions: revs,
-			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: fits.fit})
+			Weights: workshop.Weights{Scheme: workshop.WeightsEqual}, Through: through, Fit: s.fits.fit})
 		return newFeedback(panel, salt), nil
 	})
 	if err != nil {
@@ -964,8 +962,7 @@ const overlayLimit = 12
 
 // poolCurve is the equal-weight pool as a curve to draw.
 func poolCurve(pool elicit.Pool) chart.Curve {
-	return chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool,
-		PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components}
+	return chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool, Dist: chart.Pool{Pool: pool}}
 }
 
 // nextUnanswered finds, after a save, the first question after this one

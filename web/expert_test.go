@@ -8,7 +8,6 @@ import (
 	"net/http"
 	"net/http/httptest"
 	"net/url"
-	"os"
 	"path/filepath"
 	"regexp"
 	"strconv"
@@ -19,6 +18,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/internal/browsertest"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -619,22 +619,8 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 // its points follow the typed values, the page does not navigate, and
 // nothing is saved.
 func TestLivePreviewInChromium(t *testing.T) {
-	const chromium = "/usr/bin/chromium"
-	if _, err := os.Stat(chromium); err != nil {
-		t.Skipf("SKIPPING: %s not found (%v); .ci/run installs it", chromium, err)
-	}
+	ctx := browsertest.Start(t, 60*time.Second, 1280, 900)
 	g := newExpertRig(t)
-	opts := []chromedp.ExecAllocatorOption{
-		chromedp.ExecPath(chromium), chromedp.Headless, chromedp.NoSandbox, chromedp.DisableGPU, chromedp.NoFirstRun,
-		chromedp.Flag("disable-background-networking", true), chromedp.Flag("disable-component-update", true),
-		chromedp.Flag("disable-sync", true), chromedp.UserDataDir(t.TempDir()), chromedp.WindowSize(1280, 900),
-	}
-	life, cancelLife := context.WithTimeout(context.Background(), 60*time.Second)
-	defer cancelLife()
-	alloc, cancelAlloc := chromedp.NewExecAllocator(life, opts...)
-	defer cancelAlloc()
-	ctx, cancelTab := chromedp.NewContext(alloc)
-	defer cancelTab()
 	page := g.srv.URL + g.qpath(0, g.q)
 	if err := chromedp.Do(ctx, chromedp.Navigate(page)); err != nil {
 		t.Fatalf("open the question: %v", err)

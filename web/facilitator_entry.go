@@ -97,7 +97,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	var preview *previewView
 	if n := len(own); n > 0 {
 		typed = answerValues(sc.q, own[n-1].Answer)
-		if fit, err := fits.fit(sc.q, own[n-1]); err == nil {
+		if fit, err := s.fits.fit(sc.q, own[n-1]); err == nil {
 			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent)
 		}
 	}

@@ -59,10 +59,12 @@ type workshopData struct {
 	Revisions []workshop.Revision
 	Weights   workshop.Weights
 	Priors    []workshop.AgreedPrior
+	// fit is the server's fit cache (fitCache.fit).
+	fit func(workshop.Question, workshop.Revision) (elicit.Fit, error)
 }
 
 func (s *Server) readWorkshopData(ctx context.Context, ws workshop.Workshop) (workshopData, error) {
-	d := workshopData{Workshop: ws}
+	d := workshopData{Workshop: ws, fit: s.fits.fit}
 	var err error
 	if d.Questions, err = s.store.Questions(ctx, ws.ID); err != nil {
 		return d, err
@@ -100,7 +102,7 @@ func (d workshopData) state(q workshop.Question) questionState {
 		}
 	}
 	panel := workshop.PanelState(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History,
-		Weights: d.Weights, Fit: fits.fit})
+		Weights: d.Weights, Fit: d.fit})
 	for _, m := range panel.Members {
 		row := expertFitRow{Expert: m.Expert, Revision: m.Revision, Saves: m.Saves, Fit: m.Fit,
 			Pooled: m.Pooled, Weight: m.Weight, Share: m.Share}
@@ -144,9 +146,7 @@ func (st questionState) chartView() picture {
 	}
 	var summary []chart.Curve
 	if st.Pool != nil {
-		p := st.Pool
-		summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: p.PDF, CDF: p.CDF,
-			Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components})
+		summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: *st.Pool}})
 	}
 	if a := st.current(); a != nil {
 		summary = append(summary, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})

@@ -64,10 +64,7 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert) picture {
 			names, dists, weights = append(names, experts[ew.ExpertID].Name), append(dists, d), append(weights, ew.Weight)
 		}
 		if pool, err := elicit.LinearPool(dists, weights); err == nil {
-			// With its components the chart sums the experts' remembered
-			// curves instead of evaluating the mixture point by point.
-			summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, PDF: pool.PDF, CDF: pool.CDF,
-				Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components})
+			summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: pool}})
 		}
 	}
 	if a := q.AgreedPrior; a != nil {

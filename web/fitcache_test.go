@@ -13,7 +13,9 @@ import (
 	"sort"
 	"strings"
 	"sync"
+	"sync/atomic"
 	"testing"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
@@ -42,8 +44,8 @@ func TestFitCacheHitIsTheSameFit(t *testing.T) {
 			t.Fatalf("cached fit = %+v, %v; want %+v", got, err, want)
 		}
 	}
-	if c.misses != 1 {
-		t.Errorf("fitted %d times for one revision, want once", c.misses)
+	if c.computed.Load() != 1 {
+		t.Errorf("fitted %d times for one revision, want once", c.computed.Load())
 	}
 }
 
@@ -72,8 +74,8 @@ func TestFitCacheNeverStale(t *testing.T) {
 			t.Errorf("%s: got %+v, want %+v (the first fit was %+v)", tt.name, got.Dist, want.Dist, first.Dist)
 		}
 	}
-	if c.misses != 4 {
-		t.Errorf("%d fits computed, want 4", c.misses)
+	if c.computed.Load() != 4 {
+		t.Errorf("%d fits computed, want 4", c.computed.Load())
 	}
 }
 
@@ -91,8 +93,8 @@ func TestFitCacheKeepsErrors(t *testing.T) {
 			t.Fatalf("cached error %v, want %v", err, werr)
 		}
 	}
-	if c.misses != 1 {
-		t.Errorf("fitted %d times, want once", c.misses)
+	if c.computed.Load() != 1 {
+		t.Errorf("fitted %d times, want once", c.computed.Load())
 	}
 }
 
@@ -103,7 +105,7 @@ func TestFitCacheBounded(t *testing.T) {
 		if _, err := c.fit(q, cacheRevision(int64(i+1), 0.2+0.01*float64(i))); err != nil {
 			t.Fatal(err)
 		}
-		if n := c.len(); n > 8 {
+		if n := c.memo.Len(); n > 8 {
 			t.Fatalf("after %d fits the cache holds %d, more than its size 8", i+1, n)
 		}
 	}
@@ -114,8 +116,8 @@ func TestFitCacheBounded(t *testing.T) {
 		c.fit(q, cacheRevision(int64(200+i), 0.2+0.01*float64(i)))
 		c.fit(q, hot)
 	}
-	if c.misses != 40+1+20 {
-		t.Errorf("%d fits computed, want %d: the revision asked for each time was fitted again", c.misses, 61)
+	if c.computed.Load() != 40+1+20 {
+		t.Errorf("%d fits computed, want %d: the revision asked for each time was fitted again", c.computed.Load(), 61)
 	}
 }
 
@@ -324,5 +326,105 @@ func TestPanelReadFailureIsSaid(t *testing.T) {
 	}
 	if !strings.Contains(page, `name="values[1]"`) {
 		t.Error("the form is missing")
+	}
+}
+
+// A revision that carries its kept fit is served that fit, never fitted
+// again; only a revision without one is fitted.
+func TestFitCacheServesTheKeptFitFirst(t *testing.T) {
+	c := newFitCache(16)
+	q := cacheQuestion()
+	rv := cacheRevision(1, 0.4)
+	fresh, err := q.Fit(rv.Answer)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// A kept fit unlike a fresh one shows which was served.
+	kept := fresh
+	kept.Dist.Alpha, kept.Dist.Beta.Beta = 2, 5
+	rv.Kept = &kept
+	for range 2 {
+		got, err := c.fit(q, rv)
+		if err != nil || got.Dist != kept.Dist {
+			t.Fatalf("fit of a revision with a kept fit = %+v, %v; want the kept %+v", got.Dist, err, kept.Dist)
+		}
+	}
+	if n := c.computed.Load(); n != 0 || c.memo.Len() != 0 {
+		t.Errorf("a revision with a kept fit was fitted %d times (%d remembered), want never", n, c.memo.Len())
+	}
+	rv.Kept = nil
+	if got, err := c.fit(q, rv); err != nil || got.Dist != fresh.Dist || c.computed.Load() != 1 {
+		t.Errorf("without a kept fit: %+v, %v after %d fits; want the fresh %+v after one", got.Dist, err, c.computed.Load(), fresh.Dist)
+	}
+}
+
+// blockingFeedback is the store with the round feedback's read held
+// until release is closed, counting the reads.
+type blockingFeedback struct {
+	*store.DB
+	reads   atomic.Int32
+	release chan struct{}
+}
+
+func (b *blockingFeedback) LatestRevisions(ctx context.Context, question int64, through int) ([]workshop.Revision, error) {
+	b.reads.Add(1)
+	<-b.release
+	return b.DB.LatestRevisions(ctx, question, through)
+}
+
+// Every expert opening round 2 at once needs the same feedback: it is
+// read and pooled once, not once per expert. The first read is held
+// until every request has come in (or a moment has passed), so the
+// requests overlap; without the memo's one computation per key each
+// would read the panel itself.
+func TestRoundFeedbackComputedOnceForConcurrentRequests(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	for i, vals := range [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}, {"0.1", "0.3", "0.5"}} {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(vals...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	ws, err := g.db.Workshop(ctx, g.ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	st := &blockingFeedback{DB: g.db, release: make(chan struct{})}
+	s, err := New(st, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
+	if err != nil {
+		t.Fatal(err)
+	}
+	const n = 12
+	var wg sync.WaitGroup
+	fbs := make([]*feedback, n)
+	for i := range n {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			fb, err := s.panelThrough(httptest.NewRequest("GET", "/", nil), ws, g.q, 1)
+			if err != nil {
+				t.Errorf("request %d: %v", i, err)
+			}
+			fbs[i] = fb
+		}()
+	}
+	for deadline := time.Now().Add(300 * time.Millisecond); st.reads.Load() < n && time.Now().Before(deadline); {
+		time.Sleep(time.Millisecond)
+	}
+	close(st.release)
+	wg.Wait()
+	if r := st.reads.Load(); r != 1 {
+		t.Errorf("%d concurrent requests read the round's panel %d times, want once", n, r)
+	}
+	for i, fb := range fbs {
+		if fb == nil || fb != fbs[0] || len(fb.members) != 3 {
+			t.Fatalf("request %d got feedback %p, want the one shared feedback of 3 experts", i, fb)
+		}
 	}
 }

@@ -103,6 +103,9 @@ func TestThreeCallersShareOnePanelState(t *testing.T) {
 	}
 	must(g.db.SetWeights(ctx, &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsCustom, Reason: "audits",
 		ByExpert: map[int64]float64{g.experts[0].ID: 3, g.experts[1].ID: 1, g.experts[2].ID: 0, g.experts[4].ID: 4}}))
+	// The feedback read afresh, as by a server restarted mid-round, not
+	// the one remembered before the round-2 save.
+	g.s.feedbacks.Reset()
 	facilitator, fb, rec := threeViews(t, g, ws, g.q)
 	shares := map[int64]float64{}
 	for _, row := range facilitator.Rows {

@@ -23,6 +23,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/internal/memo"
+	"github.com/parley-elicit/parley/internal/turns"
 )
 
 // Options configure a Server. The zero value works: links are printed
@@ -49,9 +50,11 @@ type Server struct {
 	handler http.Handler
 	// feedbacks remembers each question's round feedback (see feedbackFor).
 	feedbacks *memo.Memo[feedbackKey, *feedback]
+	// fits serves revisions' fits (fitcache.go).
+	fits *fitCache
 	// turns bounds the expert handlers running at once to the CPUs and
-	// puts previews and saves before pages (turns.go).
-	turns *turns
+	// puts previews and saves before pages (internal/turns, turns.go).
+	turns *turns.Turns
 	// reasonGen moves on whenever a reason is withheld or shown again, so
 	// that the remembered feedback is read afresh (feedbackKey).
 	reasonGen atomic.Uint64
@@ -74,7 +77,8 @@ func New(st Store, opt Options) (*Server, error) {
 		return nil, errors.New("web: New needs a Store")
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
-		turns: newTurns(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
+		fits:  newFitCache(fitCacheSize),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now

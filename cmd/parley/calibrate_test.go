@@ -215,10 +215,7 @@ func TestCalibrateBinary(t *testing.T) {
 	if testing.Short() {
 		t.Skip("builds the binary")
 	}
-	bin := filepath.Join(t.TempDir(), "parley")
-	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
-		t.Fatalf("go build: %v\n%s", err, out)
-	}
+	bin := parleyBinary(t)
 	bad := filepath.Join(t.TempDir(), "bad.csv")
 	if err := os.WriteFile(bad, []byte("expert,question,realization,q05,q50,q95\nA,s1,1,0,1,2\nA,s1,1,0,1,2\n"), 0o600); err != nil {
 		t.Fatal(err)

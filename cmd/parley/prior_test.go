@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"math"
 	"os/exec"
-	"path/filepath"
 	"strings"
 	"testing"
 
@@ -184,10 +183,7 @@ func TestPriorPlanBinary(t *testing.T) {
 	if testing.Short() {
 		t.Skip("builds the binary")
 	}
-	bin := filepath.Join(t.TempDir(), "parley")
-	if out, err := exec.Command("go", "build", "-o", bin, ".").CombinedOutput(); err != nil {
-		t.Fatalf("go build: %v\n%s", err, out)
-	}
+	bin := parleyBinary(t)
 	tests := []struct {
 		args []string
 		code int

@@ -22,7 +22,8 @@ type PanelInput struct {
 	// feedback's cut-off, Workshop.FeedbackRound); 0 counts every round.
 	Through int
 	// Fit fits a revision's answer to the question; nil means
-	// Question.Fit. A caller with a cache of fits passes its own.
+	// Revision.FitOf (the kept fit, else Question.Fit). A caller with a
+	// cache of fits passes its own.
 	Fit func(Question, Revision) (elicit.Fit, error)
 }
 
@@ -142,7 +143,7 @@ func members(in PanelInput) []Member {
 	q := in.Question
 	fit := in.Fit
 	if fit == nil {
-		fit = func(q Question, rv Revision) (elicit.Fit, error) { return q.Fit(rv.Answer) }
+		fit = func(q Question, rv Revision) (elicit.Fit, error) { return rv.FitOf(q) }
 	}
 	within := Through(in.Through)
 	keep := func(rv Revision) bool { return rv.QuestionID == q.ID && within(rv) }

@@ -176,3 +176,23 @@ func TestPanelStateUsesTheCallersFit(t *testing.T) {
 		t.Errorf("E's fit from the caller is not used: %+v", e)
 	}
 }
+
+// Without a caller's fit function, a revision's kept fit is used, and
+// only a revision without one is fitted.
+func TestPanelStateUsesKeptFits(t *testing.T) {
+	in := panelCase()
+	fresh, err := in.Question.Fit(in.Revisions[1].Answer) // B's
+	if err != nil {
+		t.Fatal(err)
+	}
+	kept := fresh
+	kept.Dist.Alpha, kept.Dist.Beta.Beta = 3, 7 // unlike the fresh fit, to tell them apart
+	in.Revisions[1].Kept = &kept
+	p := PanelState(in)
+	if b := p.Members[1]; b.Fit == nil || b.Fit.Dist != kept.Dist {
+		t.Errorf("B's fit %+v, want the kept %+v", b.Fit, kept.Dist)
+	}
+	if a := p.Members[0]; a.Fit == nil || a.Fit.Dist != mustFit(t, in.Question, 0.1, 0.25, 0.45) {
+		t.Errorf("A, with no kept fit, is not fitted afresh: %+v", a.Fit)
+	}
+}

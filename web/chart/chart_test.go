@@ -263,11 +263,14 @@ func TestExtremeShapesStayFinite(t *testing.T) {
 			if c.zoom == "" && strings.Contains(cap, "Zoomed") || c.zoom != "" && !strings.Contains(cap, c.zoom) {
 				t.Errorf("caption's zoom note, want %q: %s", c.zoom, cap)
 			}
+			pool, err := elicit.LinearPool([]elicit.ScaledBeta{d, sbeta(3, 9, d.Lower, d.Upper)}, nil)
+			if err != nil {
+				t.Fatal(err)
+			}
 			panel := render(t, Panel(PanelView{ID: "p", Quantity: "q", Lower: d.Lower, Upper: d.Upper, Curves: []Curve{
 				{Label: "Expert 1", Dist: d},
 				{Label: "Expert 2", Dist: sbeta(3, 9, d.Lower, d.Upper)},
-				{Label: "Pool", Role: RolePool, PDF: func(x float64) float64 { return (d.PDF(x) + sbeta(3, 9, d.Lower, d.Upper).PDF(x)) / 2 },
-					CDF: func(x float64) float64 { return (d.CDF(x) + sbeta(3, 9, d.Lower, d.Upper).CDF(x)) / 2 }},
+				{Label: "Pool", Role: RolePool, Dist: Pool{pool}},
 			}}))
 			checkFinite(t, panel)
 		})
@@ -338,17 +341,20 @@ func TestPanelLineStylesDiffer(t *testing.T) {
 	}
 }
 
-// TestPanelMixtureQuantiles checks the table's percentiles of a curve given
-// only by its CDF against the closed form: an equal mixture of Beta(1, 1)
-// and Beta(2, 1) has CDF (x + x²)/2, whose median solves x² + x − 1 = 0,
-// x = (√5 − 1)/2 ≈ 0.618.
+// TestPanelMixtureQuantiles checks the table's median of a pool, drawn
+// with and without its components, against the closed form: an equal
+// mixture of Beta(1, 1) and Beta(2, 1) has CDF (x + x²)/2, whose median
+// solves x² + x − 1 = 0, x = (√5 − 1)/2 ≈ 0.618.
 func TestPanelMixtureQuantiles(t *testing.T) {
-	mix := Curve{Label: "Pool", Role: RolePool,
-		PDF: func(x float64) float64 { return (1 + 2*x) / 2 },
-		CDF: func(x float64) float64 { return (x + x*x) / 2 }}
-	m := newPanelModel(PanelView{Lower: 0, Upper: 1, Curves: []Curve{mix}})
-	if got, want := m.Legend[0].P50, FormatValue((math.Sqrt(5)-1)/2); got != want {
-		t.Errorf("mixture median = %s, want %s", got, want)
+	pool, err := elicit.LinearPool([]elicit.ScaledBeta{sbeta(1, 1, 0, 1), sbeta(2, 1, 0, 1)}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, d := range []Distribution{pool, Pool{pool}} {
+		m := newPanelModel(PanelView{Lower: 0, Upper: 1, Curves: []Curve{{Label: "Pool", Role: RolePool, Dist: d}}})
+		if got, want := m.Legend[0].P50, FormatValue((math.Sqrt(5)-1)/2); got != want {
+			t.Errorf("%T: mixture median = %s, want %s", d, got, want)
+		}
 	}
 }
 

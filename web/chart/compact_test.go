@@ -43,7 +43,7 @@ func TestCompactDrawingsStayInsideTheirBox(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		return Curve{Label: "Equal-weight pool", Role: RolePool, PDF: p.PDF, CDF: p.CDF, Quantile: p.Quantile, Quantiles: p.Quantiles, Components: p.Components}
+		return Curve{Label: "Equal-weight pool", Role: RolePool, Dist: Pool{p}}
 	}
 	others := []elicit.ScaledBeta{sbeta(4.2, 17.9, 0, 1), sbeta(2, 30, 0, 1), sbeta(8, 12, 0, 1)}
 	var many []elicit.ScaledBeta

@@ -8,26 +8,54 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// Curve is one distribution to draw. Dist is used unless PDF and CDF are
-// given, as they are for a pooled mixture; Quantile, when given, is used
-// for the table's percentiles (otherwise CDF is inverted by bisection).
-// Components, when given, are the weighted Betas of the mixture that PDF
-// and CDF evaluate (elicit.Pool's components): the picture then samples
-// the mixture as Σ wᵢ fᵢ and Σ wᵢ Fᵢ of the components' remembered
-// samples instead of calling PDF and CDF at every point. Quantiles, when
-// given, finds several increasing quantiles at once (elicit.Pool's
-// Quantiles, cheaper than one Quantile call each) and is preferred to
-// Quantile.
+// Curve is one distribution to draw, with its label and role in the
+// picture.
 type Curve struct {
-	Label      string
-	Role       Role
-	Dist       elicit.ScaledBeta
-	PDF        func(float64) float64
-	CDF        func(float64) float64
-	Quantile   func(float64) float64
-	Quantiles  func([]float64) ([]float64, error)
-	Components []elicit.Component
+	Label string
+	Role  Role
+	Dist  Distribution
 }
+
+// Distribution is what a picture needs of a distribution on a question's
+// bounds: its density, its CDF and its quantile function.
+// elicit.ScaledBeta is one, and so is elicit.Pool (draw it as a Pool to
+// offer its components).
+//
+// A Distribution may offer more, found by type assertion as io.WriterTo
+// is: several quantiles at once (BatchQuantiler), the components of a
+// mixture (Mixture), and a Validate method, which must return nil for the
+// curve to be drawn. A Beta (elicit.ScaledBeta) is drawn with its
+// normalising constant computed once for all its points, and its span,
+// samples and paths are remembered, keyed by its parameters.
+type Distribution interface {
+	PDF(x float64) float64
+	CDF(x float64) float64
+	Quantile(p float64) float64
+}
+
+// BatchQuantiler is a Distribution that finds several increasing
+// quantiles at once, cheaper than a Quantile call each (elicit.Pool's
+// Quantiles). The picture's window and percentiles use it when it is
+// there.
+type BatchQuantiler interface {
+	Quantiles(probs []float64) ([]float64, error)
+}
+
+// Mixture is a Distribution that is a weighted sum of Betas: its PDF and
+// CDF are Σ wᵢ fᵢ and Σ wᵢ Fᵢ of its components, and its quantiles are
+// functions of them. The picture samples it from its components'
+// remembered samples instead of calling PDF and CDF at every point, and
+// remembers its span and samples by the components' fingerprint.
+type Mixture interface {
+	Components() []elicit.Component
+}
+
+// Pool is a linear opinion pool to draw: an elicit.Pool that offers its
+// components as a Mixture.
+type Pool struct{ elicit.Pool }
+
+// Components returns the pool's weighted Betas.
+func (p Pool) Components() []elicit.Component { return p.Pool.Components }
 
 // Point is a value an expert stated and the cumulative probability they
 // gave it: P(X ≤ X) = P.
@@ -35,54 +63,41 @@ type Point struct {
 	X, P float64
 }
 
-func (c Curve) usesFuncs() bool { return c.PDF != nil && c.CDF != nil }
+// beta is the curve's distribution when it is a Beta.
+func (c Curve) beta() (elicit.ScaledBeta, bool) {
+	b, ok := c.Dist.(elicit.ScaledBeta)
+	return b, ok
+}
+
+// components are the curve's mixture components, or none.
+func (c Curve) components() []elicit.Component {
+	if m, ok := c.Dist.(Mixture); ok {
+		return m.Components()
+	}
+	return nil
+}
 
 // valid reports whether the curve can be evaluated without panicking.
-func (c Curve) valid() bool { return c.usesFuncs() || c.Dist.Validate() == nil }
-
-func (c Curve) pdf(x float64) float64 {
-	if c.usesFuncs() {
-		return c.PDF(x)
+func (c Curve) valid() bool {
+	if c.Dist == nil {
+		return false
 	}
-	return c.Dist.PDF(x)
+	if v, ok := c.Dist.(interface{ Validate() error }); ok {
+		return v.Validate() == nil
+	}
+	return true
 }
 
-func (c Curve) cdf(x float64) float64 {
-	if c.usesFuncs() {
-		return c.CDF(x)
-	}
-	return c.Dist.CDF(x)
-}
-
-// quantiles is c.Quantiles, or an error when it is not given.
+// quantiles is the distribution's batch of quantiles, or an error when
+// it has no BatchQuantiler.
 func (c Curve) quantiles(probs []float64) ([]float64, error) {
-	if c.Quantiles == nil {
-		return nil, errNoQuantiles
+	if b, ok := c.Dist.(BatchQuantiler); ok {
+		return b.Quantiles(probs)
 	}
-	return c.Quantiles(probs)
+	return nil, errNoQuantiles
 }
 
 var errNoQuantiles = errors.New("chart: the curve has no Quantiles")
-
-// quantile inverts the curve's CDF on [lower, upper].
-func (c Curve) quantile(p, lower, upper float64) float64 {
-	if c.Quantile != nil {
-		return c.Quantile(p)
-	}
-	if !c.usesFuncs() {
-		return c.Dist.Quantile(p)
-	}
-	lo, hi := lower, upper
-	for range 80 {
-		mid := lo + (hi-lo)/2
-		if c.CDF(mid) < p {
-			lo = mid
-		} else {
-			hi = mid
-		}
-	}
-	return lo + (hi-lo)/2
-}
 
 // Tail probabilities that bound the plotted window: the axis spans where
 // all but 0.2% of the probability lies, widened a little.
@@ -110,28 +125,25 @@ type curveSpan struct {
 // remembered. A mixture with Components leaves its top to be found from
 // its samples.
 func (c Curve) span(lower, upper float64) curveSpan {
-	switch {
-	case !c.usesFuncs():
-		return spans.Get(spanKey{c.Dist, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
-	case len(c.Components) > 0:
-		return mixSpans.Get(mixKey{fingerprint(c.Components), lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+	if b, ok := c.beta(); ok {
+		return remembered.spans.Get(spanKey{b, lower, upper}, func() curveSpan { return c.computeSpan(lower, upper) })
+	}
+	if cs := c.components(); len(cs) > 0 {
+		return remembered.mixSpans.Get(mixKey{fingerprint(cs), lower, upper}, func() curveSpan { return c.mixtureSpan(cs, lower, upper) })
 	}
 	return c.computeSpan(lower, upper)
 }
 
 func (c Curve) computeSpan(lower, upper float64) curveSpan {
 	var s curveSpan
-	if len(c.Components) > 0 {
-		return c.mixtureSpan(lower, upper)
-	}
 	probs := []float64{tailLow, percentileProbs[0], percentileProbs[1], percentileProbs[2], tailHigh}
 	if qs, err := c.quantiles(probs); err == nil && len(qs) == len(probs) {
 		s.lo, s.hi = qs[0], qs[4]
 		copy(s.percentile[:], qs[1:4])
 	} else {
-		s.lo, s.hi = c.quantile(tailLow, lower, upper), c.quantile(tailHigh, lower, upper)
+		s.lo, s.hi = c.Dist.Quantile(tailLow), c.Dist.Quantile(tailHigh)
 		for k, q := range percentileProbs {
-			s.percentile[k] = c.quantile(q, lower, upper)
+			s.percentile[k] = c.Dist.Quantile(q)
 		}
 	}
 	s.ownX0, s.ownX1 = window(lower, upper, [][2]float64{{s.lo, s.hi}}, nil)
@@ -152,9 +164,9 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 // the components' remembered tails stand in for its own in the window;
 // only its percentiles are solved for. Its own window and top are found
 // later from its samples (ownTop).
-func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
+func (c Curve) mixtureSpan(cs []elicit.Component, lower, upper float64) curveSpan {
 	s := curveSpan{lo: math.Inf(1), hi: math.Inf(-1)}
-	for _, comp := range c.Components {
+	for _, comp := range cs {
 		part := Curve{Dist: comp.Dist}
 		if !part.valid() {
 			continue
@@ -166,7 +178,7 @@ func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
 		copy(s.percentile[:], qs)
 	} else {
 		for k, q := range percentileProbs {
-			s.percentile[k] = c.quantile(q, lower, upper)
+			s.percentile[k] = c.Dist.Quantile(q)
 		}
 	}
 	return s
@@ -176,20 +188,20 @@ func (c Curve) mixtureSpan(lower, upper float64) curveSpan {
 // gridPoints+1 points over [x0, x1]. The slices may be shared and must
 // not be modified.
 func (c Curve) sample(xs []float64, x0, x1 float64) sampled {
-	switch {
-	case !c.usesFuncs():
-		return samples.Get(gridKey{c.Dist, x0, x1}, func() sampled { return evaluate(c, xs) })
-	case len(c.Components) > 0:
-		return mixSamples.Get(mixKey{fingerprint(c.Components), x0, x1}, func() sampled { return c.sumComponents(xs, x0, x1) })
+	if b, ok := c.beta(); ok {
+		return remembered.samples.Get(gridKey{b, x0, x1}, func() sampled { return evaluate(c, xs) })
+	}
+	if cs := c.components(); len(cs) > 0 {
+		return remembered.mixSamples.Get(mixKey{fingerprint(cs), x0, x1}, func() sampled { return c.sumComponents(cs, xs, x0, x1) })
 	}
 	return evaluate(c, xs)
 }
 
 // sumComponents samples a mixture as the weighted sum of its components'
 // remembered samples.
-func (c Curve) sumComponents(xs []float64, x0, x1 float64) sampled {
+func (c Curve) sumComponents(cs []elicit.Component, xs []float64, x0, x1 float64) sampled {
 	m := sampled{pdf: make([]float64, len(xs)), cdf: make([]float64, len(xs))}
-	for _, comp := range c.Components {
+	for _, comp := range cs {
 		part := Curve{Dist: comp.Dist}
 		if !part.valid() {
 			return evaluate(c, xs)
@@ -215,19 +227,19 @@ func evaluate(c Curve, xs []float64) sampled {
 // cdfFunc is the curve's CDF for evaluating at many points: a Beta's with
 // what its incomplete beta function shares across points computed once.
 func (c Curve) cdfFunc() func(float64) float64 {
-	if c.usesFuncs() {
-		return c.CDF
+	if b, ok := c.beta(); ok {
+		return b.CDFFunc()
 	}
-	return c.Dist.CDFFunc()
+	return c.Dist.CDF
 }
 
 // pdfFunc is the curve's density for evaluating at many points: a Beta's
 // with its normalising constant computed once.
 func (c Curve) pdfFunc() func(float64) float64 {
-	if c.usesFuncs() {
-		return c.PDF
+	if b, ok := c.beta(); ok {
+		return b.Density()
 	}
-	return c.Dist.Density()
+	return c.Dist.PDF
 }
 
 // window chooses the x range to draw: from the lowest 0.1% point to the

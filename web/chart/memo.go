@@ -50,10 +50,10 @@ type paths struct {
 	clipped              bool
 }
 
-// mixKey is a mixture with Components, by the fingerprint of its
+// mixKey is a Mixture, by the fingerprint of its
 // components, over a window: [a, b] is the question's bounds for its
 // span and the drawn window for its samples. A mixture's PDF, CDF and
-// quantiles are functions of its components (Curve's contract), so the
+// quantiles are functions of its components (Mixture's contract), so the
 // fingerprint stands for the whole curve.
 type mixKey struct {
 	components [sha256.Size]byte
@@ -72,14 +72,38 @@ func fingerprint(cs []elicit.Component) [sha256.Size]byte {
 	return sha256.Sum256(b)
 }
 
-// Sizes: a workshop of 200 experts and 10 questions has 2000 current
+// memos are the remembered curves, one memo per kind of result. The
+// package owns them, in the one variable remembered, and every picture
+// drawn in the process shares them: what they hold depends only on its
+// key. Sizes: a workshop of 200 experts and 10 questions has 2000 current
 // curves; a sampled curve is about 5 kB.
-var (
-	spans   = memo.New[spanKey, curveSpan](8192)
-	samples = memo.New[gridKey, sampled](4096)
-	drawn   = memo.New[pathKey, paths](4096) // about 9 kB each
+type memos struct {
+	spans   *memo.Memo[spanKey, curveSpan]
+	samples *memo.Memo[gridKey, sampled]
+	drawn   *memo.Memo[pathKey, paths] // about 9 kB each
 	// A pool is drawn on every round-2 page of its question; a workshop
 	// has a pool per question, and a few windows each.
-	mixSpans   = memo.New[mixKey, curveSpan](256)
-	mixSamples = memo.New[mixKey, sampled](256)
-)
+	mixSpans   *memo.Memo[mixKey, curveSpan]
+	mixSamples *memo.Memo[mixKey, sampled]
+}
+
+var remembered = newMemos()
+
+func newMemos() memos {
+	return memos{
+		spans:      memo.New[spanKey, curveSpan](8192),
+		samples:    memo.New[gridKey, sampled](4096),
+		drawn:      memo.New[pathKey, paths](4096),
+		mixSpans:   memo.New[mixKey, curveSpan](256),
+		mixSamples: memo.New[mixKey, sampled](256),
+	}
+}
+
+// reset forgets every remembered curve, for tests that draw afresh.
+func (m memos) reset() {
+	m.spans.Reset()
+	m.samples.Reset()
+	m.drawn.Reset()
+	m.mixSpans.Reset()
+	m.mixSamples.Reset()
+}

@@ -24,9 +24,11 @@ func panelOf(t testing.TB, withComponents bool, dists ...elicit.ScaledBeta) Pane
 	if err != nil {
 		t.Fatal(err)
 	}
-	c := Curve{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles}
+	// elicit.Pool is a Distribution with Quantiles; chart.Pool adds its
+	// components (Mixture).
+	c := Curve{Label: "Pool", Role: RolePool, Dist: pool}
 	if withComponents {
-		c.Components = pool.Components
+		c.Dist = Pool{pool}
 	}
 	v.Curves = append(v.Curves, c)
 	return v
@@ -96,11 +98,7 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	b := append([]elicit.ScaledBeta(nil), a...)
 	b[1] = sbeta(3.5, 5, 0, 1) // one expert revises; the window barely moves
 	changed := newPanelModel(panelOf(t, true, b...))
-	spans.Reset()
-	samples.Reset()
-	drawn.Reset()
-	mixSpans.Reset()
-	mixSamples.Reset()
+	remembered.reset()
 	fresh := newPanelModel(panelOf(t, true, b...))
 	if !reflect.DeepEqual(changed, fresh) {
 		t.Error("a panel drawn with remembered curves differs from the same panel drawn afresh")
@@ -112,7 +110,7 @@ func TestRememberedCurvesAreNotReusedForOthers(t *testing.T) {
 	if changed.Drawings[0].Twin.Lines[pool].Cumul == first.Drawings[0].Twin.Lines[pool].Cumul || changed.Drawings[0].Twin.Lines[pool].Density == first.Drawings[0].Twin.Lines[pool].Density {
 		t.Error("the pool of the revised panel is the pool remembered from before the revision")
 	}
-	if mixSpans.Len() == 0 || mixSamples.Len() == 0 {
+	if remembered.mixSpans.Len() == 0 || remembered.mixSamples.Len() == 0 {
 		t.Error("the pool's span and samples were not remembered")
 	}
 }
@@ -160,15 +158,15 @@ func TestPoolWindowIsShared(t *testing.T) {
 	draw := func(own elicit.ScaledBeta) panelModel {
 		return newPanelModel(PanelView{ID: "p", Quantity: "Failure share", Lower: 0, Upper: 1, Curves: []Curve{
 			{Label: "You", Role: RoleExpert, Dist: own},
-			{Label: "Pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantiles: pool.Quantiles, Components: pool.Components},
+			{Label: "Pool", Role: RolePool, Dist: Pool{pool}},
 		}})
 	}
-	mixSamples.Reset()
+	remembered.mixSamples.Reset()
 	a, b := draw(sbeta(2.1, 8, 0, 1)), draw(sbeta(2.2, 8.3, 0, 1))
 	if a.Drawings[0].Twin.X0 != b.Drawings[0].Twin.X0 || a.Drawings[0].Twin.X1 != b.Drawings[0].Twin.X1 {
 		t.Errorf("windows [%v, %v] and [%v, %v] differ for nearly equal own curves", a.Drawings[0].Twin.X0, a.Drawings[0].Twin.X1, b.Drawings[0].Twin.X0, b.Drawings[0].Twin.X1)
 	}
-	if n := mixSamples.Len(); n != 1 {
+	if n := remembered.mixSamples.Len(); n != 1 {
 		t.Errorf("the pool was sampled for %d windows, want 1", n)
 	}
 }

@@ -25,7 +25,7 @@ func spreadInputs(n int) (SpreadView, []elicit.ScaledBeta) {
 	}
 	v := SpreadView{ID: "s", Quantity: "Response rate", Lower: 0, Upper: 1, Others: others, Curves: []Curve{
 		{Label: "You", Role: RoleExpert, Dist: own},
-		{Label: "Equal-weight pool", Role: RolePool, PDF: pool.PDF, CDF: pool.CDF, Quantile: pool.Quantile, Quantiles: pool.Quantiles, Components: pool.Components},
+		{Label: "Equal-weight pool", Role: RolePool, Dist: Pool{pool}},
 	}}
 	return v, others
 }

@@ -133,16 +133,17 @@ type noteLine struct {
 // values (stated points) are kept inside the window.
 func newTwin(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
 	sp := make([]curveSpan, len(curves))
+	valid := make([]bool, len(curves))
 	var tails [][2]float64
 	for i, c := range curves {
-		if c.valid() {
+		if valid[i] = c.valid(); valid[i] {
 			sp[i] = c.span(lower, upper)
 			tails = append(tails, [2]float64{sp[i].lo, sp[i].hi})
 		}
 	}
 	x0, x1 := window(lower, upper, tails, extra)
-	for _, c := range curves {
-		if c.valid() && c.usesFuncs() {
+	for i, c := range curves {
+		if _, beta := c.beta(); valid[i] && !beta {
 			x0, x1 = snapWindow(x0, x1, lower, upper)
 			break
 		}
@@ -153,7 +154,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	xs := dens.grid(gridPoints)
 	ys := make([]sampled, len(curves))
 	for i, c := range curves {
-		if c.valid() {
+		if valid[i] {
 			ys[i] = c.sample(xs, x0, x1)
 		}
 	}
@@ -165,7 +166,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	// its top is read from its samples there.
 	top := 0.0
 	for i, c := range curves {
-		if !c.valid() {
+		if !valid[i] {
 			continue
 		}
 		t := sp[i].top
@@ -182,7 +183,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	g.DensityTop = top
 
 	for i, c := range curves {
-		if !c.valid() {
+		if !valid[i] {
 			continue
 		}
 		st := styleFor(c.Role, expertIndex(curves, i))
@@ -196,10 +197,10 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 			return p
 		}
 		var p paths
-		if c.usesFuncs() {
-			p = draw()
+		if b, ok := c.beta(); ok {
+			p = remembered.drawn.Get(pathKey{b, x0, x1, top, area, lay.Name}, draw)
 		} else {
-			p = drawn.Get(pathKey{c.Dist, x0, x1, top, area, lay.Name}, draw)
+			p = draw()
 		}
 		l := lineGeom{Label: c.Label, Role: c.Role.String(), Density: p.density, Cumul: p.cumul, Area: p.area,
 			Stroke: st.Stroke, Width: st.Width, Dash: st.Dash, DashName: st.Name}
