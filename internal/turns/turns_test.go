@@ -207,8 +207,10 @@ func TestEarlierSettleTimerKeepsALaterHold(t *testing.T) {
 	tr := New(3) // two pages at once
 	timers := &fakeTimers{}
 	tr.after = timers.after
-	if !tr.Acquire(bg, Page) || !tr.Acquire(bg, Page) {
-		t.Fatal("no turns for two pages")
+	for i := 0; i < 2; i++ {
+		if !tr.Acquire(bg, Page) {
+			t.Fatalf("no turn for page %d of two", i+1)
+		}
 	}
 	tr.Release(Page) // the first page's hold begins
 	tr.Release(Page) // the second's; the first's timer has already fired
