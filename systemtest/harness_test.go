@@ -13,7 +13,6 @@ import (
 	"net/url"
 	"os"
 	"os/exec"
-	"path/filepath"
 	"strconv"
 	"strings"
 	"sync"
@@ -22,6 +21,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/internal/testbin"
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -29,59 +29,18 @@ import (
 // store, start `parley serve` as a child process, wait until it answers,
 // kill or stop it, and talk to it the way a browser form does.
 
-var (
-	buildOnce sync.Once
-	buildDir  string
-	buildBin  string
-	buildErr  error
-)
+func TestMain(m *testing.M) { testbin.Main(m) }
 
-func TestMain(m *testing.M) {
-	code := m.Run()
-	if buildDir != "" {
-		os.RemoveAll(buildDir)
-	}
-	os.Exit(code)
-}
-
-// parleyBinary builds cmd/parley once per test run (without -race: the
-// child's speed matters more than its own race checks, which the unit
-// tests cover) and returns its path.
+// parleyBinary builds cmd/parley once per test run (internal/testbin).
+// PARLEY_SYSTEMTEST_SRC builds it from another copy of the module, for
+// checking that these tests fail on a broken server.
 func parleyBinary(t testing.TB) string {
 	t.Helper()
-	buildOnce.Do(func() {
-		// PARLEY_SYSTEMTEST_SRC builds the binary from another copy of the
-		// module, for checking that these tests fail on a broken server.
-		src := os.Getenv("PARLEY_SYSTEMTEST_SRC")
-		if src == "" {
-			src = ".."
-		}
-		root, err := filepath.Abs(src)
-		if err != nil {
-			buildErr = err
-			return
-		}
-		if _, err := os.Stat(filepath.Join(root, "go.mod")); err != nil {
-			buildErr = fmt.Errorf("module root not found above systemtest: %w", err)
-			return
-		}
-		buildDir, err = os.MkdirTemp("", "parley-systemtest-")
-		if err != nil {
-			buildErr = err
-			return
-		}
-		buildBin = filepath.Join(buildDir, "parley")
-		cmd := exec.Command("go", "build", "-o", buildBin, "./cmd/parley")
-		cmd.Dir = root
-		out, err := cmd.CombinedOutput()
-		if err != nil {
-			buildErr = fmt.Errorf("go build ./cmd/parley: %v\n%s", err, out)
-		}
-	})
-	if buildErr != nil {
-		t.Fatal(buildErr)
+	src := os.Getenv("PARLEY_SYSTEMTEST_SRC")
+	if src == "" {
+		src = ".."
 	}
-	return buildBin
+	return testbin.Parley(t, src)
 }
 
 // freeAddr returns a loopback address with a port that was free a moment
