@@ -199,15 +199,7 @@ func (s *Server) loadQuestion(w http.ResponseWriter, r *http.Request, ws worksho
 }
 
 func (s *Server) questionPanel(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
-	if !ok {
-		return
-	}
-	s.showPanelWith(w, r, http.StatusOK, ws, q, panelForms{})
+	s.questionList(w, r, "")
 }
 
 // panelForms are the panel's forms to show again with their errors; nil
@@ -275,6 +267,8 @@ func (s *Server) questionHistory(w http.ResponseWriter, r *http.Request) {
 	s.questionList(w, r, "history")
 }
 
+// questionList shows the question's panel page ("") or one of its lists
+// on a page of its own ("reasons", "history").
 func (s *Server) questionList(w http.ResponseWriter, r *http.Request, page string) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
