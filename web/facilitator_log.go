@@ -2,6 +2,7 @@ package web
 
 import (
 	"encoding/json"
+	"fmt"
 	"net/http"
 	"strconv"
 	"strings"
@@ -88,6 +89,7 @@ var eventLabels = map[workshop.EventKind]string{
 	workshop.EventReasonReleased:   "Reason shown again in the feedback",
 	workshop.EventWorkshopEdited:   "Workshop details changed",
 	workshop.EventTruthEntered:     "True value entered (hidden)",
+	workshop.EventDataRecorded:     "Observed data recorded",
 }
 
 func eventLabel(k workshop.EventKind) string {
@@ -114,6 +116,10 @@ type eventDetail struct {
 	After  map[string]json.RawMessage `json:"after"`
 	// The revision whose reason was withheld or shown again.
 	RevisionID int64 `json:"revision_id"`
+	// A batch of observed data.
+	Successes  int    `json:"successes"`
+	Trials     int    `json:"trials"`
+	ObservedOn string `json:"observed_on"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'
@@ -197,6 +203,10 @@ func (w eventWriter) sentence(e workshop.Event) string {
 		}
 	case workshop.EventQuestionEdited, workshop.EventWorkshopEdited:
 		return correction(d)
+	case workshop.EventDataRecorded:
+		if d.Trials > 0 {
+			return fmt.Sprintf("%d successes in %d trials, observed on %s, added to the data that update the agreed prior.", d.Successes, d.Trials, d.ObservedOn)
+		}
 	case workshop.EventTruthEntered:
 		return "Entered or changed, and kept hidden from the experts until it is revealed."
 	case workshop.EventQuestionRetired:
