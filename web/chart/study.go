@@ -310,11 +310,15 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 		// Room on the left for the labels; the plot is what is left.
 		labelW, chars := 190.0, 24
 		if lay.Name == "compact" {
-			labelW, chars = 118.0, 14
+			labelW, chars = 132.0, 13
 		}
 		lay.PlotW = lay.PlotW + lay.Left - labelW - 8
 		lay.Left = labelW + 8
 		lay.PlotH = intervalRowH * float64(len(v.Rows))
+		lay.XTicks = 5
+		if lay.Name == "compact" {
+			lay.XTicks = 3
+		}
 		id := m.ID
 		if i > 0 {
 			id += "-" + lay.Name
