@@ -135,3 +135,61 @@ func axeSourceOrNothing(t *testing.T) (src string) {
 	}
 	return src
 }
+
+// TestQuickPriorsInBrowser: the facilitator sets "between 3% and 12%, 90%
+// sure" on the quick-priors page, sees both interval methods side by side
+// with the coverage each achieves, and records the exact quantile match as
+// Q1's agreed prior; the page fits at 390 and 1366 px.
+func TestQuickPriorsInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	wss, _ := site.DB.Workshops(ctx)
+	ws := wss[0]
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(site.URL + "/w/" + strconv.FormatInt(ws.ID, 10))
+	if st := fac.load("open quick priors", chromedp.Click(chromedp.CSS(`nav a[href$="/quick-priors"]`))); st != http.StatusOK {
+		t.Fatalf("quick priors: %d", st)
+	}
+	fac.do("choose the interval", chromedp.Click(chromedp.CSS(`#f-construction-interval`)))
+	form := `form[action$="/quick-priors#results"]`
+	fac.fill(form, "c_low", "0.03")
+	fac.fill(form, "c_high", "0.12")
+	fac.fill(form, "c_coverage", "0.9")
+	if st := fac.load("make the prior", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("make: %d", st)
+	}
+	for _, m := range []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles} {
+		c, err := elicit.Construct(elicit.ConstructionInput{Method: m, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		fac.sees(string(m), fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(c.Dist.Alpha), chart.FormatValue(c.Dist.Beta.Beta)), chart.FormatPercent(c.CoverageAchieved))
+	}
+	axe := axeSourceOrNothing(t)
+	here := strings.SplitN(fac.url(), "#", 2)[0]
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 900, w < 600)
+		fac.open(here)
+		fits(t, fac, "quick priors", w)
+		if axe != "" {
+			accessible(t, fac, axe, fmt.Sprintf("quick priors at %d px", w))
+		}
+		shots.take(fac, fmt.Sprintf("quick-priors-interval-%d", w))
+	}
+	fac.fill(`form[action$="/quick-priors/agree"]`, "rationale", "Between 3% and 12%, 90% sure (invented).")
+	fac.do("confirm the open round", chromedp.Click(chromedp.CSS(`#f-confirm_open`)))
+	if st := fac.load("record the quantile match", chromedp.Click(chromedp.CSS(`button[value="interval_quantiles"]`))); st != http.StatusOK {
+		t.Fatalf("record: %d", st)
+	}
+	fac.sees("panel after recording", "quick construction: central 90% interval [0.03, 0.12] by exact quantile match")
+	ps, _ := site.DB.AgreedPriors(ctx, ws.ID)
+	if cur := ps[len(ps)-1]; cur.Source != workshop.PriorFromConstruction || cur.Construction == nil {
+		t.Fatalf("stored %+v", cur)
+	}
+}

@@ -260,10 +260,11 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 			return err
 		}
 		detail, _ := json.Marshal(struct {
-			Source    workshop.PriorSource `json:"source"`
-			Dist      elicit.ScaledBeta    `json:"dist"`
-			RoundOpen bool                 `json:"while_round_open,omitempty"`
-		}{p.Source, p.Dist, stored.RoundOpen})
+			Source       workshop.PriorSource      `json:"source"`
+			Dist         elicit.ScaledBeta         `json:"dist"`
+			Construction *elicit.ConstructionInput `json:"construction,omitempty"`
+			RoundOpen    bool                      `json:"while_round_open,omitempty"`
+		}{p.Source, p.Dist, p.Construction, stored.RoundOpen})
 		if err := insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: workshop.EventPriorAgreed,
 			At: at, Reason: p.Rationale, Detail: string(detail),

@@ -1027,9 +1027,9 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var55 string
-					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(sourceLabel(h.Source))
+					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(priorOrigin(h))
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `facilitator_report.templ`, Line: 232, Col: 134}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `facilitator_report.templ`, Line: 232, Col: 127}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var55))
 					if templ_7745c5c3_Err != nil {
@@ -1042,7 +1042,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 					var templ_7745c5c3_Var56 string
 					templ_7745c5c3_Var56, templ_7745c5c3_Err = templ.JoinStringErrs(h.Rationale)
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `facilitator_report.templ`, Line: 232, Col: 162}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `facilitator_report.templ`, Line: 232, Col: 155}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var56))
 					if templ_7745c5c3_Err != nil {
@@ -1718,6 +1718,8 @@ func sourceShort(s workshop.PriorSource) string {
 		return "linear pool (its single Beta)"
 	case workshop.PriorFromConsensus:
 		return "consensus judgement"
+	case workshop.PriorFromConstruction:
+		return "quick construction"
 	}
 	return string(s)
 }

@@ -52,3 +52,17 @@ func underField(prefix string, err error) error {
 	}
 	return err
 }
+
+// ConstructionWords says how a constructed prior was made, from its kept
+// inputs (elicit.Construction.Describe); "" for a prior of another source
+// or one whose construction cannot be made again.
+func (p AgreedPrior) ConstructionWords() string {
+	if p.Source != PriorFromConstruction || p.Construction == nil {
+		return ""
+	}
+	c, err := elicit.Construct(*p.Construction)
+	if err != nil {
+		return ""
+	}
+	return c.Describe()
+}
