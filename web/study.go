@@ -180,8 +180,10 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 		return v
 	}
 	v.Plan = planStudy(ctx, v.Plan)
-	if v.Agreed != nil && v.Plan.Ran {
-		if outcomes, err := elicit.PlannedOutcomes(v.Agreed.Dist.Beta, v.Plan.Trials); err == nil {
+	if v.Plan.Ran {
+		// A typical outcome of the planned study under the prior it is
+		// planned under: the median of that prior's predictive.
+		if outcomes, err := elicit.PlannedOutcomes(v.Plan.Chosen.Prior, v.Plan.Trials); err == nil {
 			v.Planned = compare(priors, outcomes[1], v.Plan.Trials, "planned")
 		}
 	}
