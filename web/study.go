@@ -286,8 +286,9 @@ func planStudy(ctx context.Context, p planView) planView {
 			Criterion: elicit.Criterion(f.Choice("criterion", "", string(elicit.CriterionALC), string(elicit.CriterionACC), string(elicit.CriterionWOC))),
 			Interval:  elicit.IntervalKind(f.Choice("interval", "", string(elicit.IntervalEqual), string(elicit.IntervalHPD))),
 		}
+		g.Trim, _ = f.OptionalFloat("woc_trim")
 		if f.OK() {
-			f.Fail(g.Validate(), nil)
+			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
 		}
 		p.Size = &g
 	}

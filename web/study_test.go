@@ -166,6 +166,8 @@ func TestStudyPlanRefusesBadInput(t *testing.T) {
 		{"trials=50&length=0.05&level=0.95&criterion=best", "criterion"},
 		{"trials=50&length=0.05&level=0.95&interval=round", "interval"},
 		{"trials=50&prior=99", "prior"},
+		{"trials=50&length=0.05&level=0.95&criterion=alc&woc_trim=0.05", "woc_trim"},
+		{"trials=50&length=0.05&level=0.95&criterion=woc&woc_trim=1", "woc_trim"},
 		{"trials=50&length=0.000001&level=0.95&criterion=woc", "length"}, // no n up to 100,000 meets it
 	} {
 		res, body := h.get(sp + "?" + c.query)
@@ -242,6 +244,14 @@ func TestStudyPlanMatchesTheCommandLineAndSciPy(t *testing.T) {
 	}
 	if _, ok := ref["samplesize|2.0|38.0|130|alc:hpd:0.95:0.06:0.0"]; !ok || p.SizeRes.N != 130 {
 		t.Errorf("sample size %d, SciPy 130 (row present: %v)", p.SizeRes.N, ok)
+	}
+	// The trimmed worst outcome: SciPy's smallest n is 103, and the
+	// criterion fails again at 106 (the page says so).
+	form = newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "length": {"0.1"}, "level": {"0.95"}, "criterion": {"woc"},
+		"interval": {"equal"}, "woc_trim": {"0.05"}})
+	p = planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+	if _, ok := ref["samplesize|2.0|38.0|103|woc:equal:0.95:0.1:0.05"]; !ok || p.SizeRes == nil || p.SizeRes.N != 103 || p.SizeRes.FailsAgainAt != 106 {
+		t.Errorf("trimmed WOC: %+v, SciPy 103, failing again at 106 (row present: %v)", p.SizeRes, ok)
 	}
 	// The predictive at 50 trials against SciPy's betabinom.
 	form = newForm(url.Values{"prior": {"0"}, "trials": {"50"}})
