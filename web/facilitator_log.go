@@ -102,14 +102,16 @@ func eventLabel(k workshop.EventKind) string {
 // eventDetail is the union of what the store writes into Event.Detail
 // for each kind of decision.
 type eventDetail struct {
-	Round     int                   `json:"round"`
-	ExpertID  int64                 `json:"expert_id"`
-	Scheme    workshop.WeightScheme `json:"scheme"`
-	ByExpert  map[string]float64    `json:"by_expert"`
-	Source    workshop.PriorSource  `json:"source"`
-	Dist      *elicit.ScaledBeta    `json:"dist"`
-	TrueValue *float64              `json:"true_value"`
-	RoundOpen bool                  `json:"while_round_open"`
+	Round    int                   `json:"round"`
+	ExpertID int64                 `json:"expert_id"`
+	Scheme   workshop.WeightScheme `json:"scheme"`
+	ByExpert map[string]float64    `json:"by_expert"`
+	Source   workshop.PriorSource  `json:"source"`
+	Dist     *elicit.ScaledBeta    `json:"dist"`
+	// A quick construction's inputs, for a prior made by one.
+	Construction *elicit.ConstructionInput `json:"construction"`
+	TrueValue    *float64                  `json:"true_value"`
+	RoundOpen    bool                      `json:"while_round_open"`
 	// A correction's changed fields, before and after.
 	Fields []string                   `json:"fields"`
 	Before map[string]json.RawMessage `json:"before"`
@@ -196,6 +198,11 @@ func (w eventWriter) sentence(e workshop.Event) string {
 	case workshop.EventPriorAgreed:
 		if d.Dist != nil {
 			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+			if d.Construction != nil {
+				if c, err := elicit.Construct(*d.Construction); err == nil {
+					s = betaLabel(*d.Dist) + ": a quick construction, " + c.Describe() + "."
+				}
+			}
 			if d.RoundOpen {
 				s += " Agreed while the round was still open, after the facilitator confirmed it."
 			}

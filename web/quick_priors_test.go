@@ -141,6 +141,9 @@ func TestConstructionRecordedAsTheAgreedPrior(t *testing.T) {
 	if a := rec.Questions[0].AgreedPrior; a == nil || a.Construction == nil || *a.Construction != in {
 		t.Fatalf("record's agreed prior %+v", a)
 	}
+	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "a quick construction, "+htmlEscape(want.Describe())) {
+		t.Error("the decision log does not say which construction made the prior")
+	}
 	_, csv := h.get(workshopPath(ws.ID) + "/priors.csv")
 	if !strings.Contains(csv, "construction: central 90% interval [0.03, 0.12] by exact quantile match") {
 		t.Errorf("the priors CSV's source does not name the construction: %s", csv)
