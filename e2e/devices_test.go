@@ -289,6 +289,9 @@ func TestEveryPageOnAPhone(t *testing.T) {
 		"entry":        g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10) + "/enter/" + strconv.FormatInt(g.experts[2].ID, 10),
 		"sheet":        g.wsURL() + "/answers/import",
 		"expert view":  g.wsURL() + "/experts/" + strconv.FormatInt(g.experts[0].ID, 10),
+		"study Q1":     g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10) + "/study?trials=60&threshold=0.1&confidence=0.9",
+		"study days":   g.wsURL() + "/q/" + strconv.FormatInt(g.qs[3].ID, 10) + "/study",
+		"quick priors": g.wsURL() + "/quick-priors?construction=interval&c_low=1&c_high=8&c_coverage=0.9&question=" + strconv.FormatInt(g.qs[3].ID, 10),
 	}
 	for name, url := range facPages {
 		check(fac, "facilitator "+name, url, widths, true)

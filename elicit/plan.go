@@ -279,3 +279,14 @@ func roughly(v float64) string {
 	}
 	return fmt.Sprintf("%.3g", v)
 }
+
+// PredictiveMoments are the mean and standard deviation of the number of
+// successes in n trials under the beta-binomial prior predictive of a
+// Beta(α, β) prior (Johnson, Kemp & Kotz 2005, "Univariate Discrete
+// Distributions", 3rd ed., §6.7.2): nα/(α+β) and
+// √(nαβ(α+β+n)/((α+β)²(α+β+1))).
+func PredictiveMoments(prior Beta, n int) (mean, sd float64) {
+	a, b, fn := prior.Alpha, prior.Beta, float64(n)
+	s := a + b
+	return fn * prior.Mean(), math.Sqrt(fn * a * b * (s + fn) / (s * s * (s + 1)))
+}

@@ -217,12 +217,14 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 	if err := p.Dist.Validate(); err != nil {
 		return err
 	}
-	switch p.Source {
-	case workshop.PriorFromPool, workshop.PriorFromConsensus:
-	default:
-		return &elicit.InputError{Field: "source", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", p.Source)}
+	if err := p.CheckSource(); err != nil {
+		return err
 	}
 	consensus, err := marshalConsensus(p.Consensus)
+	if err != nil {
+		return err
+	}
+	construction, err := marshalConstruction(p.Construction)
 	if err != nil {
 		return err
 	}
@@ -253,15 +255,16 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		}
 		stored := *p
 		stored.Round, stored.At, stored.RoundOpen, stored.WeightSetID = round, at, open == 1, set.Int64
-		id, err := insertPrior(ctx, tx, stored, consensus)
+		id, err := insertPrior(ctx, tx, stored, consensus, construction)
 		if err != nil {
 			return err
 		}
 		detail, _ := json.Marshal(struct {
-			Source    workshop.PriorSource `json:"source"`
-			Dist      elicit.ScaledBeta    `json:"dist"`
-			RoundOpen bool                 `json:"while_round_open,omitempty"`
-		}{p.Source, p.Dist, stored.RoundOpen})
+			Source       workshop.PriorSource      `json:"source"`
+			Dist         elicit.ScaledBeta         `json:"dist"`
+			Construction *elicit.ConstructionInput `json:"construction,omitempty"`
+			RoundOpen    bool                      `json:"while_round_open,omitempty"`
+		}{p.Source, p.Dist, p.Construction, stored.RoundOpen})
 		if err := insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: workshopID, QuestionID: p.QuestionID, Kind: workshop.EventPriorAgreed,
 			At: at, Reason: p.Rationale, Detail: string(detail),
@@ -284,12 +287,31 @@ func marshalConsensus(a *workshop.Answer) (any, error) {
 	return string(b), nil
 }
 
-func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consensus any) (int64, error) {
-	res, err := tx.ExecContext(ctx,
-		`INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, weight_set_id, at)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
-		p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
-		consensus, p.Rationale, p.Round, boolInt(p.RoundOpen), nullID(p.WeightSetID), formatTime(p.At))
+func marshalConstruction(c *elicit.ConstructionInput) (any, error) {
+	if c == nil {
+		return nil, nil
+	}
+	b, err := json.Marshal(c)
+	if err != nil {
+		return nil, fmt.Errorf("store: construction: %w", err)
+	}
+	return string(b), nil
+}
+
+// insertPrior writes one agreed prior. A prior without a construction
+// leaves that column out, so it can be written at a schema version before
+// it (the migration test writes data at every version).
+func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consensus, construction any) (int64, error) {
+	cols := `question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, weight_set_id, at`
+	marks := `?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?`
+	args := []any{p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
+		consensus, p.Rationale, p.Round, boolInt(p.RoundOpen), nullID(p.WeightSetID), formatTime(p.At)}
+	if construction != nil {
+		cols += `, construction`
+		marks += `, ?`
+		args = append(args, construction)
+	}
+	res, err := tx.ExecContext(ctx, `INSERT INTO agreed_priors (`+cols+`) VALUES (`+marks+`)`, args...)
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
 	}
@@ -309,7 +331,7 @@ func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]workshop.Ag
 func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.AgreedPrior, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
-		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at
+		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at, p.construction
 		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id
 		 WHERE q.workshop_id = ? ORDER BY p.id`, workshopID)
 	if err != nil {
@@ -322,11 +344,12 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.A
 			p          workshop.AgreedPrior
 			source, at string
 			consensus  sql.NullString
+			built      sql.NullString
 			roundOpen  int
 			set        sql.NullInt64
 		)
 		if err := rows.Scan(&p.ID, &p.QuestionID, &source, &p.Dist.Alpha, &p.Dist.Beta.Beta,
-			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at); err != nil {
+			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at, &built); err != nil {
 			return nil, fmt.Errorf("store: read agreed prior: %w", err)
 		}
 		p.Source = workshop.PriorSource(source)
@@ -335,6 +358,12 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.A
 			p.Consensus = new(workshop.Answer)
 			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {
 				return nil, fmt.Errorf("store: bad stored consensus %q: %w", consensus.String, err)
+			}
+		}
+		if built.Valid {
+			p.Construction = new(elicit.ConstructionInput)
+			if err := json.Unmarshal([]byte(built.String), p.Construction); err != nil {
+				return nil, fmt.Errorf("store: bad stored construction %q: %w", built.String, err)
 			}
 		}
 		if p.At, err = parseTime(at); err != nil {

@@ -74,6 +74,12 @@ func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 				}
 			}
 		}
+		for _, d := range rec.StudyData {
+			d.QuestionID = imp.questions[d.QuestionID]
+			if _, err := insertData(ctx, tx, d); err != nil {
+				return fmt.Errorf("study data %d: %w", d.ID, err)
+			}
+		}
 		for _, e := range rec.Events {
 			e.WorkshopID, e.QuestionID = workshopID, imp.questions[e.QuestionID]
 			e.Detail = remapDetail(e.Detail, imp.experts, imp.revisions)
@@ -254,8 +260,12 @@ func (imp importer) prior(ap workshop.AgreedPrior) error {
 	if err != nil {
 		return err
 	}
+	construction, err := marshalConstruction(ap.Construction)
+	if err != nil {
+		return err
+	}
 	ap.QuestionID, ap.WeightSetID = imp.questions[ap.QuestionID], imp.weightSets[ap.WeightSetID]
-	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus); err != nil {
+	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus, construction); err != nil {
 		return fmt.Errorf("agreed prior %d: %w", ap.ID, err)
 	}
 	return nil

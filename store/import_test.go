@@ -50,6 +50,16 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true}))
 	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromConsensus,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed", RoundOpen: true}))
+	// A prior from a quick construction on the second question, and data
+	// against both agreed priors.
+	built := elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.1, High: 0.5, Coverage: 0.9, Upper: 1}
+	c, err := elicit.Construct(built)
+	must(t, err)
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[1].ID, Source: workshop.PriorFromConstruction,
+		Dist: c.Dist, Construction: &built, Rationale: "between 10% and 50%, 90% sure", RoundOpen: true}))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: p.qs[0].ID, Successes: 3, Trials: 20, Source: "pilot (invented)", ObservedOn: "2026-02-01"}))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: p.qs[0].ID, Successes: 6, Trials: 30, Source: "audit (invented)", ObservedOn: "2026-03-01"}))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: p.qs[1].ID, Successes: 1, Trials: 4, Source: "spot check (invented)", ObservedOn: "2026-03-02"}))
 	return p
 }
 

@@ -40,6 +40,9 @@ func (db *DB) Source(ctx context.Context, workshopID int64) (workshop.Snapshot, 
 	if src.Priors, err = readPriors(ctx, tx, workshopID); err != nil {
 		return src, err
 	}
+	if src.Data, err = readStudyData(ctx, tx, workshopID); err != nil {
+		return src, err
+	}
 	src.Events, err = readEvents(ctx, tx, workshopID)
 	return src, err
 }

@@ -84,6 +84,10 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/q/{question}/room", s.roomView)
 		r.Post("/q/{question}/weights", s.setWeights)
 		r.Post("/q/{question}/agree", s.agreePrior)
+		r.Get("/quick-priors", s.quickPriors) // quick_priors.go: a Beta from a few numbers
+		r.Post("/quick-priors/agree", s.agreeQuickPrior)
+		r.Get("/q/{question}/study", s.studyPage) // study.go: data, posterior, planning, comparison
+		r.Post("/q/{question}/study/data", s.recordData)
 		r.Get("/report", s.report)
 		r.Get("/export.json", s.exportRecord("json", false))
 		r.Get("/export.csv", s.exportRecord("csv", false))

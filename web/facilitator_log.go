@@ -2,6 +2,7 @@ package web
 
 import (
 	"encoding/json"
+	"fmt"
 	"net/http"
 	"strconv"
 	"strings"
@@ -88,6 +89,7 @@ var eventLabels = map[workshop.EventKind]string{
 	workshop.EventReasonReleased:   "Reason shown again in the feedback",
 	workshop.EventWorkshopEdited:   "Workshop details changed",
 	workshop.EventTruthEntered:     "True value entered (hidden)",
+	workshop.EventDataRecorded:     "Observed data recorded",
 }
 
 func eventLabel(k workshop.EventKind) string {
@@ -100,20 +102,26 @@ func eventLabel(k workshop.EventKind) string {
 // eventDetail is the union of what the store writes into Event.Detail
 // for each kind of decision.
 type eventDetail struct {
-	Round     int                   `json:"round"`
-	ExpertID  int64                 `json:"expert_id"`
-	Scheme    workshop.WeightScheme `json:"scheme"`
-	ByExpert  map[string]float64    `json:"by_expert"`
-	Source    workshop.PriorSource  `json:"source"`
-	Dist      *elicit.ScaledBeta    `json:"dist"`
-	TrueValue *float64              `json:"true_value"`
-	RoundOpen bool                  `json:"while_round_open"`
+	Round    int                   `json:"round"`
+	ExpertID int64                 `json:"expert_id"`
+	Scheme   workshop.WeightScheme `json:"scheme"`
+	ByExpert map[string]float64    `json:"by_expert"`
+	Source   workshop.PriorSource  `json:"source"`
+	Dist     *elicit.ScaledBeta    `json:"dist"`
+	// A quick construction's inputs, for a prior made by one.
+	Construction *elicit.ConstructionInput `json:"construction"`
+	TrueValue    *float64                  `json:"true_value"`
+	RoundOpen    bool                      `json:"while_round_open"`
 	// A correction's changed fields, before and after.
 	Fields []string                   `json:"fields"`
 	Before map[string]json.RawMessage `json:"before"`
 	After  map[string]json.RawMessage `json:"after"`
 	// The revision whose reason was withheld or shown again.
 	RevisionID int64 `json:"revision_id"`
+	// A batch of observed data.
+	Successes  int    `json:"successes"`
+	Trials     int    `json:"trials"`
+	ObservedOn string `json:"observed_on"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'
@@ -190,6 +198,11 @@ func (w eventWriter) sentence(e workshop.Event) string {
 	case workshop.EventPriorAgreed:
 		if d.Dist != nil {
 			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+			if d.Construction != nil {
+				if c, err := elicit.Construct(*d.Construction); err == nil {
+					s = betaLabel(*d.Dist) + ": a quick construction, " + c.Describe() + "."
+				}
+			}
 			if d.RoundOpen {
 				s += " Agreed while the round was still open, after the facilitator confirmed it."
 			}
@@ -197,6 +210,10 @@ func (w eventWriter) sentence(e workshop.Event) string {
 		}
 	case workshop.EventQuestionEdited, workshop.EventWorkshopEdited:
 		return correction(d)
+	case workshop.EventDataRecorded:
+		if d.Trials > 0 {
+			return fmt.Sprintf("%d successes in %d trials, observed on %s, added to the data that update the agreed prior.", d.Successes, d.Trials, d.ObservedOn)
+		}
 	case workshop.EventTruthEntered:
 		return "Entered or changed, and kept hidden from the experts until it is revealed."
 	case workshop.EventQuestionRetired:

@@ -5,14 +5,16 @@ import (
 	"net/http"
 	"strconv"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-// agreePrior records the prior the panel agreed for a question: either the
+// agreePrior records the prior the panel agreed for a question: the
 // pool's single-Beta representation, recomputed here from the stored
-// judgements (never taken from the form), or a Beta fitted by elicit to a
-// consensus judgement entered in the question's format. A rationale is
+// judgements (never taken from the form), a Beta fitted by elicit to a
+// consensus judgement entered in the question's format, or a Beta from a
+// quick construction, made again here from its typed inputs. A rationale is
 // required. While the round is open the facilitator must confirm it
 // (confirm_open), since answers may still change afterwards; the record
 // notes such a prior.
@@ -26,7 +28,8 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	source := workshop.PriorSource(f.Choice("source", "", string(workshop.PriorFromPool), string(workshop.PriorFromConsensus)))
+	source := workshop.PriorSource(f.Choice("source", "", string(workshop.PriorFromPool), string(workshop.PriorFromConsensus),
+		string(workshop.PriorFromConstruction)))
 	rationale := f.Text("rationale", input.MaxLongText, true)
 	p := workshop.AgreedPrior{QuestionID: q.ID, Source: source, Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
 	switch source {
@@ -49,6 +52,15 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		a, fit, ok := readAnswer(q, f)
 		if ok {
 			p.Dist, p.Consensus = fit.Dist, &a
+		}
+	case workshop.PriorFromConstruction:
+		// Made again here from the typed inputs (quick_priors.go).
+		method := elicit.ConstructionMethod(f.Choice(fieldConstruction, "", constructionMethods...))
+		if f.OK() {
+			if c, ok := construct(f, constructionInput(f, q, method)); ok {
+				in := c.Input
+				p.Dist, p.Construction = c.Dist, &in
+			}
 		}
 	}
 	if ws.Open && !p.RoundOpen {

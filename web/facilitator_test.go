@@ -296,8 +296,9 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// The demo comes with its own agreed prior; this one follows it.
 	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
-	if len(ps) != 1 || ps[0].Source != workshop.PriorFromPool || ps[0].Dist != rep.Dist {
+	if len(ps) != 2 || ps[1].Source != workshop.PriorFromPool || ps[1].Dist != rep.Dist {
 		t.Fatalf("agreed %+v, want %+v", ps, rep.Dist)
 	}
 	_, body = h.get(qp)
@@ -317,7 +318,7 @@ func TestWorkshopFlowThroughForms(t *testing.T) {
 		t.Fatal(err)
 	}
 	ps, _ = h.db.AgreedPriors(ctx, ws.ID)
-	if len(ps) != 2 || ps[1].Source != workshop.PriorFromConsensus || ps[1].Dist != want.Dist || ps[1].Consensus == nil {
+	if len(ps) != 3 || ps[2].Source != workshop.PriorFromConsensus || ps[2].Dist != want.Dist || ps[2].Consensus == nil {
 		t.Fatalf("consensus agreed %+v, want %+v", ps[len(ps)-1], want.Dist)
 	}
 
@@ -445,8 +446,8 @@ func TestReportAndExports(t *testing.T) {
 		t.Fatalf("exported JSON does not parse as a record: %v", err)
 	}
 	ps, _ := h.db.AgreedPriors(context.Background(), ws.ID)
-	if rec.Questions[0].AgreedPrior == nil || rec.Questions[0].AgreedPrior.Dist != ps[0].Dist {
-		t.Fatalf("exported agreed prior %+v, stored %+v", rec.Questions[0].AgreedPrior, ps[0].Dist)
+	if cur := ps[len(ps)-1]; rec.Questions[0].AgreedPrior == nil || rec.Questions[0].AgreedPrior.Dist != cur.Dist {
+		t.Fatalf("exported agreed prior %+v, stored %+v", rec.Questions[0].AgreedPrior, cur.Dist)
 	}
 	if strings.Contains(body, `"true_value"`) {
 		t.Error("export carries an unrevealed true value")
@@ -516,10 +517,10 @@ func TestDecisionLogInSentences(t *testing.T) {
 		}
 	}
 	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
-	if len(ps) != 1 {
+	if len(ps) != 2 { // the demo's own and the pool's
 		t.Fatalf("%d agreed priors", len(ps))
 	}
-	beta := "Beta(" + fv(ps[0].Dist.Alpha) + ", " + fv(ps[0].Dist.Beta.Beta) + "): the single Beta representing the linear pool."
+	beta := "Beta(" + fv(ps[1].Dist.Alpha) + ", " + fv(ps[1].Dist.Beta.Beta) + "): the single Beta representing the linear pool."
 	want := []string{
 		"Ines Varga joined the panel", "Ole Brandt joined the panel",
 		"Ines Varga 0.50, Tomas Lindqvist 0.25, Priya Raman 0.25, Ole Brandt 0.00",

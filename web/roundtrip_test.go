@@ -154,6 +154,13 @@ func TestEveryTextFieldRoundTripsAtItsLimit(t *testing.T) {
 		"weights[" + eid(0) + "]": {"2"}, "weights[" + eid(1) + "]": {"1"}, "weights[" + eid(2) + "]": {"1"},
 	}, ok)
 	fac.mustPost("agree", qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {long(56)}}, ok)
+	fac.mustPost("record study data", qp+"/study/data", url.Values{
+		"successes": {"2"}, "trials": {"30"}, "source": {short(61)}, "observed_on": {"2027-01-31"},
+	}, ok)
+	fac.mustPost("agree a quick prior", wp+"/quick-priors/agree", url.Values{
+		"question": {strconv.FormatInt(rec.Questions[0].ID, 10)}, "construction": {"mean_sd"}, "c_mean": {"0.2"}, "c_sd": {"0.1"},
+		"confirm_open": {"on"}, "rationale": {long(62)},
+	}, ok)
 	rec = fac.exportJSON(wp)
 	var withhold int64
 	for _, rv := range rec.Revisions {
@@ -183,8 +190,8 @@ func TestEveryTextFieldRoundTripsAtItsLimit(t *testing.T) {
 			texts++
 		}
 	}
-	if texts < 45 {
-		t.Errorf("only %d texts at a limit in the record; the forms sent 45", texts)
+	if texts < 47 {
+		t.Errorf("only %d texts at a limit in the record; the forms sent 47", texts)
 	}
 
 	dst, err := store.Open(filepath.Join(t.TempDir(), "imported.db"))
@@ -234,6 +241,9 @@ func recordTexts(r record.Record) []string {
 	}
 	for _, rv := range r.Revisions {
 		out = append(out, rv.Reason)
+	}
+	for _, d := range r.StudyData {
+		out = append(out, d.Source)
 	}
 	for _, e := range r.Events {
 		out = append(out, e.Reason)

@@ -79,6 +79,10 @@ type Store interface {
 	AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error                      // records EventPriorAgreed
 	AgreedPriors(ctx context.Context, workshopID int64) ([]workshop.AgreedPrior, error) // oldest first
 	Events(ctx context.Context, workshopID int64) ([]workshop.Event, error)             // oldest first
+	// Study data: batches of observed data against a question's agreed
+	// prior, append-only, with EventDataRecorded.
+	RecordData(ctx context.Context, d *workshop.StudyData) error
+	StudyData(ctx context.Context, workshopID int64) ([]workshop.StudyData, error) // oldest first
 
 	// Facilitator sign-in. The secret's hash is spent by its one sign-in.
 	FacilitatorHash(ctx context.Context) ([]byte, error)         // nil, nil when none set or it was spent

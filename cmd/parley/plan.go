@@ -6,7 +6,6 @@ import (
 	"flag"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -227,16 +226,12 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 		return planOutput{}, err
 	}
 	worth := elicit.Worth(prior)
-	s := worth.Trials
-	fn := float64(n)
+	predMean, predSD := elicit.PredictiveMoments(prior, n)
 	out := planOutput{
 		Alpha: alpha, Beta: beta, PriorMean: prior.Mean(), PriorSD: prior.SD(), Worth: worth,
 		Trials: n, DataShare: worth.DataShare(n), Predictive: pmf,
-		// Beta-binomial mean and variance (Johnson, Kemp & Kotz 2005,
-		// "Univariate Discrete Distributions", 3rd ed., §6.7.2):
-		// nα/(α+β) and nαβ(α+β+n)/((α+β)²(α+β+1)).
-		PredictiveMean: fn * prior.Mean(),
-		PredictiveSD:   math.Sqrt(fn * alpha * beta * (s + fn) / (s * s * (s + 1))),
+		PredictiveMean: predMean,
+		PredictiveSD:   predSD,
 		PredictivePercentiles: planQuantiles{
 			elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95),
 		},

@@ -213,3 +213,27 @@ func TestCheckID(t *testing.T) {
 		}
 	}
 }
+
+func TestDate(t *testing.T) {
+	for _, c := range []struct {
+		raw  string
+		rule elicit.Rule
+	}{
+		{"2026-03-31", ""},
+		{" 2026-12-02 ", ""},
+		{"", elicit.RuleRequired},
+		{"2026-02-30", RuleDate}, // no such day
+		{"31/03/2026", RuleDate},
+		{"2026-3-31", RuleDate},
+		{"2026-03-31T00:00", RuleDate},
+	} {
+		_, err := Date("observed_on", c.raw)
+		var ie *elicit.InputError
+		switch {
+		case c.rule == "" && err != nil:
+			t.Errorf("%q: %v", c.raw, err)
+		case c.rule != "" && (!errors.As(err, &ie) || ie.Rule != c.rule || ie.Field != "observed_on"):
+			t.Errorf("%q: got %v, want field observed_on and rule %q", c.raw, err, c.rule)
+		}
+	}
+}

@@ -33,7 +33,11 @@ func (r Record) WritePriorsCSV(w io.Writer) error {
 		row := []string{strconv.FormatInt(q.ID, 10), cell(q.Quantity), cell(q.Units)}
 		row = append(row, floats(a.Dist.Lower, a.Dist.Upper, a.Dist.Alpha, a.Dist.Beta.Beta,
 			a.Mean, a.SD, a.Percentiles.P05, a.Percentiles.P50, a.Percentiles.P95)...)
-		row = append(row, string(a.Source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano))
+		source := string(a.Source)
+		if words := a.ConstructionWords(); words != "" {
+			source += ": " + words // which construction, and its inputs
+		}
+		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano))
 		if err := cw.Write(row); err != nil {
 			return err
 		}

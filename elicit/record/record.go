@@ -47,6 +47,10 @@ type Record struct {
 	Weights       workshop.Weights   `json:"weights"`
 	WeightHistory []workshop.Weights `json:"weight_history"`
 	Events        []workshop.Event   `json:"events"`
+	// StudyData is every batch of observed data recorded against the
+	// questions' agreed priors, oldest first; empty in records made before
+	// Parley kept data.
+	StudyData []workshop.StudyData `json:"study_data"`
 	// Performance is the scoring of the panel on the calibration questions
 	// by Cooke's classical model (record_scores.go), present once every
 	// calibration question's true value is revealed; PerformanceNote says
@@ -67,6 +71,11 @@ type Question struct {
 	// modelling languages; PriorHistory is every agreement, oldest first.
 	AgreedPrior  *Prior                 `json:"agreed_prior,omitempty"`
 	PriorHistory []workshop.AgreedPrior `json:"prior_history"`
+	// Update is the agreed prior updated with the question's recorded
+	// data (workshop.StudyUpdate), present once data are recorded;
+	// UpdateError says why it could not be computed.
+	Update      *workshop.Update `json:"update,omitempty"`
+	UpdateError string           `json:"update_error,omitempty"`
 }
 
 // CurrentFit is an expert's latest revision on a question and its fit.
@@ -185,6 +194,7 @@ func build(src workshop.Snapshot, now time.Time, panels bool) (Record, error) {
 		Weights:       src.Weights,
 		WeightHistory: []workshop.Weights{},
 		Events:        append([]workshop.Event{}, src.Events...),
+		StudyData:     append([]workshop.StudyData{}, src.Data...),
 	}
 	questions := map[int64]workshop.Question{}
 	for _, q := range src.Questions {
@@ -251,6 +261,13 @@ func build(src workshop.Snapshot, now time.Time, panels bool) (Record, error) {
 		if n := len(rq.PriorHistory); n > 0 {
 			cur := rq.PriorHistory[n-1]
 			rq.AgreedPrior = newPrior(cur)
+			if _, _, batches := workshop.DataTotals(src.Data, q.ID); batches > 0 {
+				if u, err := workshop.StudyUpdate(q, cur, src.Data); err != nil {
+					rq.UpdateError = err.Error()
+				} else {
+					rq.Update = &u
+				}
+			}
 		}
 		if !panels {
 			r.Questions = append(r.Questions, rq)

@@ -143,6 +143,9 @@ func (r Record) validate(fits []elicit.Fit) error {
 	if err := r.checkWeightHistory(experts, questions); err != nil {
 		return err
 	}
+	if err := r.checkStudyData(questions); err != nil {
+		return err
+	}
 	seenE := map[int64]bool{}
 	for i, e := range r.Events {
 		p := fmt.Sprintf("events[%d]", i)
@@ -219,13 +222,11 @@ func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w worksh
 	if ap.QuestionID != q.ID {
 		return inputErr(p+".question_id", elicit.RuleUnknown, "%d is not the question's id %d", ap.QuestionID, q.ID)
 	}
-	switch ap.Source {
-	case workshop.PriorFromPool, workshop.PriorFromConsensus:
-	default:
-		return inputErr(p+".source", elicit.RuleUnknown, "%q", ap.Source)
-	}
 	if err := ap.Dist.Validate(); err != nil {
 		return under(p+".dist", err)
+	}
+	if err := ap.CheckSource(); err != nil {
+		return under(p, err)
 	}
 	if ap.Consensus != nil {
 		if _, err := q.Fit(*ap.Consensus); err != nil {
@@ -365,4 +366,41 @@ func knownEvent(k workshop.EventKind) bool {
 		}
 	}
 	return false
+}
+
+// checkStudyData checks every batch of recorded data: its id, a question
+// of the record with an agreed prior, the batch's own rules
+// (workshop.StudyData.Validate), a time, and each question's total
+// within elicit.MaxUpdateTrials.
+func (r Record) checkStudyData(questions map[int64]workshop.Question) error {
+	withPrior := map[int64]bool{}
+	for _, q := range r.Questions {
+		withPrior[q.ID] = len(q.PriorHistory) > 0
+	}
+	seen := map[int64]bool{}
+	totals := map[int64]int{}
+	for i, d := range r.StudyData {
+		p := fmt.Sprintf("study_data[%d]", i)
+		if err := checkID(p+".id", d.ID, seen); err != nil {
+			return err
+		}
+		seen[d.ID] = true
+		if _, ok := questions[d.QuestionID]; !ok {
+			return inputErr(p+".question_id", elicit.RuleUnknown, "no question %d in the record", d.QuestionID)
+		}
+		if !withPrior[d.QuestionID] {
+			return inputErr(p+".question_id", elicit.RuleUnknown, "question %d has no agreed prior", d.QuestionID)
+		}
+		if err := d.Validate(); err != nil {
+			return under(p, err)
+		}
+		if err := workshop.CheckDataTotal(totals[d.QuestionID], d); err != nil {
+			return under(p, err)
+		}
+		totals[d.QuestionID] += d.Trials
+		if d.At.IsZero() {
+			return inputErr(p+".at", elicit.RuleRequired, "")
+		}
+	}
+	return nil
 }

@@ -21,6 +21,12 @@ var (
 	ErrRevoked = errors.New("the expert's access has been revoked")
 	// ErrRetired is returned when an answer is saved to a retired question.
 	ErrRetired = errors.New("the question has been retired")
+	// ErrNoAgreedPrior is returned when data are recorded for a question
+	// that has no agreed prior to update.
+	ErrNoAgreedPrior = errors.New("the question has no agreed prior yet")
+	// ErrNoData is returned when a question has no recorded data to
+	// update its prior with.
+	ErrNoData = errors.New("no data have been recorded for the question")
 )
 
 // inputErr is an *elicit.InputError for field with a formatted detail.

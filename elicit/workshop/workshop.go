@@ -214,11 +214,12 @@ const (
 	EventQuestionRestored EventKind = "question_restored" // a retired question brought back
 	EventRoundReopened    EventKind = "round_reopened"    // the last closed round opened again
 	EventWorkshopArchived EventKind = "workshop_archived"
-	EventWorkshopRestored EventKind = "workshop_restored" // an archived workshop brought back
-	EventReasonWithheld   EventKind = "reason_withheld"   // a revision's reason kept from the feedback
-	EventReasonReleased   EventKind = "reason_released"   // a withheld reason shown again
-	EventWorkshopEdited   EventKind = "workshop_edited"   // detail: the fields before and after
-	EventTruthEntered     EventKind = "truth_entered"     // a true value entered or changed, still hidden
+	EventWorkshopRestored EventKind = "workshop_restored"   // an archived workshop brought back
+	EventReasonWithheld   EventKind = "reason_withheld"     // a revision's reason kept from the feedback
+	EventReasonReleased   EventKind = "reason_released"     // a withheld reason shown again
+	EventWorkshopEdited   EventKind = "workshop_edited"     // detail: the fields before and after
+	EventTruthEntered     EventKind = "truth_entered"       // a true value entered or changed, still hidden
+	EventDataRecorded     EventKind = "study_data_recorded" // observed data recorded against a question's agreed prior
 )
 
 // EventKinds lists every event kind, in the order they were introduced.
@@ -227,7 +228,7 @@ var EventKinds = []EventKind{
 	EventTruthRevealed, EventExpertAdded, EventExpertRevoked, EventTokenReissued, EventQuestionAdded,
 	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
 	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
-	EventWorkshopEdited, EventTruthEntered,
+	EventWorkshopEdited, EventTruthEntered, EventDataRecorded,
 }
 
 // Event is one facilitator decision with its time and reason. Detail holds
@@ -290,6 +291,9 @@ const (
 	PriorFromPool PriorSource = "pool"
 	// PriorFromConsensus is a Beta fitted to a judgement the group agreed.
 	PriorFromConsensus PriorSource = "consensus"
+	// PriorFromConstruction is a Beta made by a quick construction
+	// (elicit.Construct) from the inputs kept in AgreedPrior.Construction.
+	PriorFromConstruction PriorSource = "construction"
 )
 
 // AgreedPrior is the prior the panel settled on for a question. Every
@@ -300,8 +304,11 @@ type AgreedPrior struct {
 	Source     PriorSource       `json:"source"`
 	Dist       elicit.ScaledBeta `json:"dist"`
 	Consensus  *Answer           `json:"consensus,omitempty"`
-	Rationale  string            `json:"rationale"`
-	Round      int               `json:"round"`
+	// Construction is what a quick construction was given, for a prior
+	// from PriorFromConstruction: elicit.Construct makes Dist from it.
+	Construction *elicit.ConstructionInput `json:"construction,omitempty"`
+	Rationale    string                    `json:"rationale"`
+	Round        int                       `json:"round"`
 	// RoundOpen is set when the prior was agreed while its round was
 	// still open, after the facilitator confirmed it: answers could still
 	// change after the agreement.
@@ -326,7 +333,10 @@ type Snapshot struct {
 	// is Weights.
 	WeightHistory []Weights
 	Priors        []AgreedPrior // oldest first
-	Events        []Event       // oldest first
+	// Data is every batch of observed data recorded against the
+	// questions' agreed priors, oldest first.
+	Data   []StudyData
+	Events []Event // oldest first
 }
 
 // DeletedWorkshop is what is left of a workshop deleted before anyone

@@ -5,10 +5,12 @@ type Role int
 
 // The roles a curve can play.
 const (
-	RoleExpert    Role = iota // one expert's fitted Beta
-	RolePool                  // the pooled distribution (a mixture)
-	RoleAgreed                // the prior the panel agreed
-	RoleConsensus             // a Beta fitted to a judgement the group agreed
+	RoleExpert     Role = iota // one expert's fitted Beta
+	RolePool                   // the pooled distribution (a mixture)
+	RoleAgreed                 // the prior the panel agreed
+	RoleConsensus              // a Beta fitted to a judgement the group agreed
+	RoleLikelihood             // the data's likelihood, scaled to a density
+	RolePosterior              // the prior updated with the data
 )
 
 func (r Role) String() string {
@@ -21,6 +23,10 @@ func (r Role) String() string {
 		return "agreed"
 	case RoleConsensus:
 		return "consensus"
+	case RoleLikelihood:
+		return "likelihood"
+	case RolePosterior:
+		return "posterior"
 	}
 	return "curve"
 }
@@ -65,6 +71,10 @@ func styleFor(r Role, i int) lineStyle {
 		return lineStyle{Stroke: "#1B1B1B", Width: "3.5", Dash: "11 5", Name: "thick dashed"}
 	case RoleConsensus:
 		return lineStyle{Stroke: "#5A5A5A", Width: "3", Dash: "11 4 2 4", Name: "thick dash-dot"}
+	case RoleLikelihood:
+		return lineStyle{Stroke: "#D55E00", Width: "2.5", Dash: "1.5 3", Name: "dotted"}
+	case RolePosterior:
+		return lineStyle{Stroke: "#0072B2", Width: "3.5", Name: "thick solid"}
 	}
 	d := expertDashes[i%len(expertDashes)]
 	return lineStyle{Stroke: expertHues[i%len(expertHues)], Width: "2", Dash: d.Dash, Name: d.Name}

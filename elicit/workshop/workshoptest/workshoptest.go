@@ -56,9 +56,17 @@ func PumpSeals() workshop.Snapshot {
 			{ID: 42, QuestionID: 11, Source: workshop.PriorFromConsensus, Dist: elicit.Unit(elicit.Beta{Alpha: 4.2, Beta: 17.9}),
 				Consensus: &consensus, Rationale: "agreed in discussion", Round: 2, At: at(8)},
 		},
+		// Two batches of invented field data for question 11: 9 failures
+		// in 60 seals in all.
+		Data: []workshop.StudyData{
+			{ID: 61, QuestionID: 11, Successes: 4, Trials: 25, Source: "site A log (invented)", ObservedOn: "2026-05-31", At: at(9)},
+			{ID: 62, QuestionID: 11, Successes: 5, Trials: 35, Source: "site B log (invented)", ObservedOn: "2026-06-30", At: at(10)},
+		},
 		Events: []workshop.Event{
 			{ID: 51, WorkshopID: 7, Kind: workshop.EventWorkshopCreated, At: T0},
 			{ID: 52, WorkshopID: 7, QuestionID: 11, Kind: workshop.EventPriorAgreed, At: at(8), Reason: "agreed in discussion"},
+			{ID: 53, WorkshopID: 7, QuestionID: 11, Kind: workshop.EventDataRecorded, At: at(9), Reason: "site A log (invented)"},
+			{ID: 54, WorkshopID: 7, QuestionID: 11, Kind: workshop.EventDataRecorded, At: at(10), Reason: "site B log (invented)"},
 		},
 	}
 }

@@ -1,0 +1,198 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// TestStudyInBrowser: the project lead goes from the invented demo's
+// agreed prior to the study: opens the study page from the question's
+// panel, records two batches of data (one refused first, with the field
+// named), sees the posterior with its picture and the conflict check,
+// plans the study and sees the assurance curve; at 390 and 1366 px the
+// page fits and axe-core finds nothing serious.
+func TestStudyInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	wss, _ := site.DB.Workshops(ctx)
+	ws := wss[0]
+	qs, _ := site.DB.Questions(ctx, ws.ID)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	lead := br.person("project lead")
+	signIn(t, site, lead)
+	panel := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	lead.open(panel)
+	if st := lead.load("open the study page", chromedp.Click(chromedp.CSS(`#agreed a[href$="/study"]`))); st != http.StatusOK {
+		t.Fatalf("study page: %d", st)
+	}
+	lead.sees("study page", "Q1: from the agreed prior to the study", "Caution.", "No data recorded yet.", "What the study may see")
+	shots.take(lead, "study-01-fresh-1280")
+
+	record := func(s, n, source, date string) int64 {
+		form := `form[action$="/study/data"]`
+		lead.fill(form, "successes", s)
+		lead.fill(form, "trials", n)
+		lead.fill(form, "source", source)
+		lead.fill(form, "observed_on", date)
+		return lead.load("record the data", chromedp.Click(chromedp.CSS(form+` button[type=submit]`)))
+	}
+	if st := record("3", "120", "Field returns, first quarter (invented)", "2027-03-31"); st != http.StatusOK {
+		t.Fatalf("first batch: %d", st)
+	}
+	lead.sees("after the first batch", "What the data say", "Posterior mean", "highest-density interval", "Prior–data conflict check")
+	// More successes than trials is refused beside the field, nothing saved.
+	if st := record("130", "120", "Field returns, second quarter (invented)", "2027-06-30"); st != http.StatusUnprocessableEntity {
+		t.Errorf("130 in 120: status %d, want 422", st)
+	}
+	if !lead.visible(`#err-successes`) {
+		t.Error("the refused successes carry no message beside the field")
+	}
+	lead.sees("refused batch", "Nothing was saved")
+	if st := record("5", "80", "Field returns, second quarter (invented)", "2027-06-30"); st != http.StatusOK {
+		t.Fatalf("second batch: %d", st)
+	}
+	data, _ := site.DB.StudyData(ctx, ws.ID)
+	if len(data) != 2 {
+		t.Fatalf("%d batches saved, want 2", len(data))
+	}
+	ps, _ := site.DB.AgreedPriors(ctx, ws.ID)
+	u, err := workshop.StudyUpdate(qs[0], ps[len(ps)-1], data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	lead.sees("posterior", "All 2 batches",
+		fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(u.Posterior.Alpha), chart.FormatValue(u.Posterior.Beta)),
+		chart.FormatValue(u.Interval[0])+" to "+chart.FormatValue(u.Interval[1]),
+		chart.FormatValue(u.HDI[0])+" to "+chart.FormatValue(u.HDI[1]), u.Reading)
+	if n := lead.count(`#update svg.chart-wide path.curve-posterior`); n != 2 {
+		t.Errorf("the update picture draws %d posterior paths, want density and CDF", n)
+	}
+
+	// Plan a study of 200 trials: assurance that P(θ < 0.08 | data) ≥ 0.95,
+	// and the sample size for 95% intervals 0.04 wide on average.
+	form := `#plan form`
+	lead.fill(form, "trials", "200")
+	lead.fill(form, "threshold", "0.08")
+	lead.fill(form, "confidence", "0.95")
+	lead.fill(form, "length", "0.04")
+	if st := lead.load("plan the study", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("plan: %d", st)
+	}
+	prior := ps[len(ps)-1].Dist.Beta
+	goal := elicit.SuccessCriterion{Threshold: 0.08, Direction: elicit.DirectionBelow, Confidence: 0.95}
+	a, _ := elicit.Assurance(prior, 200, goal)
+	size, err := elicit.SampleSize(ctx, prior, elicit.SampleSizeGoal{Criterion: elicit.CriterionALC, Interval: elicit.IntervalEqual, Level: 0.95, Length: 0.04})
+	if err != nil {
+		t.Fatal(err)
+	}
+	lead.sees("plan", "Assurance", chart.FormatPercent(a.Assurance), strconv.Itoa(size.N)+" trials", "For the planned study", "For the recorded data")
+	if n := lead.count(`#assurance svg.chart-wide circle.assurance-dot`); n != 40 {
+		t.Errorf("the assurance curve has %d points, want 40", n)
+	}
+	if n := lead.count(`#predictive svg.chart-wide rect.bar-success`); n == 0 {
+		t.Error("the predictive picture marks no successful outcome")
+	}
+	if n := lead.count(`#compare-observed svg.chart-wide line.interval-line`); n < 4 {
+		t.Errorf("the comparison draws %d priors, want at least the 3 answered experts and the agreed prior", n)
+	}
+
+	axe := axeSourceOrNothing(t)
+	here := strings.SplitN(lead.url(), "#", 2)[0]
+	for _, w := range []int64{360, 390, 1366} {
+		lead.viewport(w, 900, w < 600)
+		lead.open(here)
+		fits(t, lead, "study page", w)
+		if w == 360 {
+			continue
+		}
+		if axe != "" {
+			accessible(t, lead, axe, fmt.Sprintf("study page at %d px", w))
+		}
+		shots.take(lead, fmt.Sprintf("study-02-data-and-plan-%d", w))
+	}
+}
+
+// axeSourceOrNothing is axeSource without skipping the whole test: the
+// browser checks run either way, the accessibility check only when
+// axe-core is installed (it says so loudly when not).
+func axeSourceOrNothing(t *testing.T) (src string) {
+	t.Helper()
+	ok := t.Run("axe-core installed", func(t *testing.T) { src = axeSource(t) })
+	if !ok || src == "" {
+		t.Log("SKIPPING ACCESSIBILITY CHECKS of the study page: axe-core is not installed; run `npm ci --prefix e2e/axe`")
+	}
+	return src
+}
+
+// TestQuickPriorsInBrowser: the facilitator sets "between 3% and 12%, 90%
+// sure" on the quick-priors page, sees both interval methods side by side
+// with the coverage each achieves, and records the exact quantile match as
+// Q1's agreed prior; the page fits at 390 and 1366 px.
+func TestQuickPriorsInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	wss, _ := site.DB.Workshops(ctx)
+	ws := wss[0]
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(site.URL + "/w/" + strconv.FormatInt(ws.ID, 10))
+	if st := fac.load("open quick priors", chromedp.Click(chromedp.CSS(`nav a[href$="/quick-priors"]`))); st != http.StatusOK {
+		t.Fatalf("quick priors: %d", st)
+	}
+	fac.do("choose the interval", chromedp.Click(chromedp.CSS(`#f-construction-interval`)))
+	form := `form[action$="/quick-priors#results"]`
+	fac.fill(form, "c_low", "0.03")
+	fac.fill(form, "c_high", "0.12")
+	fac.fill(form, "c_coverage", "0.9")
+	if st := fac.load("make the prior", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("make: %d", st)
+	}
+	for _, m := range []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles} {
+		c, err := elicit.Construct(elicit.ConstructionInput{Method: m, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		fac.sees(string(m), fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(c.Dist.Alpha), chart.FormatValue(c.Dist.Beta.Beta)), chart.FormatPercent(c.CoverageAchieved))
+	}
+	axe := axeSourceOrNothing(t)
+	here := strings.SplitN(fac.url(), "#", 2)[0]
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 900, w < 600)
+		fac.open(here)
+		fits(t, fac, "quick priors", w)
+		if axe != "" {
+			accessible(t, fac, axe, fmt.Sprintf("quick priors at %d px", w))
+		}
+		shots.take(fac, fmt.Sprintf("quick-priors-interval-%d", w))
+	}
+	fac.fill(`form[action$="/quick-priors/agree"]`, "rationale", "Between 3% and 12%, 90% sure (invented).")
+	fac.do("confirm the open round", chromedp.Click(chromedp.CSS(`#f-confirm_open`)))
+	if st := fac.load("record the quantile match", chromedp.Click(chromedp.CSS(`button[value="interval_quantiles"]`))); st != http.StatusOK {
+		t.Fatalf("record: %d", st)
+	}
+	fac.sees("panel after recording", "quick construction: central 90% interval [0.03, 0.12] by exact quantile match")
+	ps, _ := site.DB.AgreedPriors(ctx, ws.ID)
+	if cur := ps[len(ps)-1]; cur.Source != workshop.PriorFromConstruction || cur.Construction == nil {
+		t.Fatalf("stored %+v", cur)
+	}
+}

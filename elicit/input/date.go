@@ -1,0 +1,37 @@
+package input
+
+import (
+	"fmt"
+	"strings"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// RuleDate is broken by a date that is not a calendar date written
+// year-month-day.
+const RuleDate elicit.Rule = "must be a date written as 2026-03-31 (year-month-day)"
+
+// DateLayout is how dates are typed and stored: ISO 8601's calendar date.
+const DateLayout = "2006-01-02"
+
+// Date parses raw, trimmed, as a calendar date (DateLayout): required,
+// and a real day (2026-02-30 is refused).
+func Date(field, raw string) (string, error) {
+	s := strings.TrimSpace(raw)
+	return s, CheckDate(field, s)
+}
+
+// CheckDate checks a stored date by Date's rule.
+func CheckDate(field, s string) error {
+	if s == "" {
+		return &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
+	}
+	if len(s) != len(DateLayout) {
+		return &elicit.InputError{Field: field, Rule: RuleDate, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
+	if _, err := time.Parse(DateLayout, s); err != nil {
+		return &elicit.InputError{Field: field, Rule: RuleDate, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
+	return nil
+}

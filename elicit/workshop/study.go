@@ -1,0 +1,181 @@
+package workshop
+
+import (
+	"fmt"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+)
+
+// StudyData is one batch of observed data that the project lead records
+// against a question's agreed prior: successes in trials, where they come
+// from, and the day they were observed. Batches are only ever added;
+// together they update the agreed prior (DataTotals, elicit.Posterior).
+type StudyData struct {
+	ID         int64     `json:"id"`
+	QuestionID int64     `json:"question_id"`
+	Successes  int       `json:"successes"`
+	Trials     int       `json:"trials"`
+	Source     string    `json:"source"`      // where the data come from: a study, a report, a field log
+	ObservedOn string    `json:"observed_on"` // the day observed, input.DateLayout
+	At         time.Time `json:"at"`          // when recorded
+}
+
+// Validate checks a batch by the rules of the form it is typed in:
+// 1 ≤ trials ≤ elicit.MaxUpdateTrials, 0 ≤ successes ≤ trials, a source
+// of at most input.MaxShortText characters, and a calendar date. Errors
+// name the field by its JSON key.
+func (d StudyData) Validate() error {
+	if d.Trials < 1 || d.Trials > elicit.MaxUpdateTrials {
+		return inputErr("trials", elicit.RuleCountRange, "1 to %d, got %d", elicit.MaxUpdateTrials, d.Trials)
+	}
+	if d.Successes < 0 || d.Successes > d.Trials {
+		return inputErr("successes", elicit.RuleCountRange, "0 to the trials (%d), got %d", d.Trials, d.Successes)
+	}
+	if err := input.CheckText("source", d.Source, input.MaxShortText, true); err != nil {
+		return err
+	}
+	return input.CheckDate("observed_on", d.ObservedOn)
+}
+
+// DataTotals is the successes and trials of every batch recorded for
+// question q, summed: binomial batches of one proportion update a Beta
+// prior exactly as one batch of their totals (the likelihoods multiply).
+func DataTotals(data []StudyData, q int64) (successes, trials, batches int) {
+	for _, d := range data {
+		if d.QuestionID == q {
+			successes += d.Successes
+			trials += d.Trials
+			batches++
+		}
+	}
+	return successes, trials, batches
+}
+
+// CheckDataTotal refuses a batch that would take a question's recorded
+// trials beyond elicit.MaxUpdateTrials, the limit of an update.
+func CheckDataTotal(recorded int, d StudyData) error {
+	if recorded+d.Trials > elicit.MaxUpdateTrials {
+		return inputErr("trials", elicit.RuleCountRange,
+			"the question's batches may hold at most %d trials together; %d are recorded, so at most %d more",
+			elicit.MaxUpdateTrials, recorded, elicit.MaxUpdateTrials-recorded)
+	}
+	return nil
+}
+
+// IsProportion reports whether the question asks for a proportion on
+// [0, 1], the scale on which binomial data update a Beta prior.
+func (q Question) IsProportion() bool { return q.Lower == 0 && q.Upper == 1 }
+
+// ComparedPriors are the priors a question's study is compared under
+// (elicit.Sensitivity): each pooled expert's own current fit, the pool
+// of the panel under equal weights and under performance weights (each
+// represented by its single Beta, elicit.Pool.BestBeta), and the agreed
+// prior. The panels are workshop.PanelState's; performance weights are
+// left out when perf is nil (none were ever computed), and a pool
+// without a single Beta is left out and named in skipped.
+func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors []elicit.NamedPrior, skipped []string) {
+	in.Weights = Weights{WorkshopID: in.Question.WorkshopID, Scheme: WeightsEqual}
+	equal := PanelState(in)
+	for _, m := range equal.Members {
+		if m.Pooled && m.Fit != nil {
+			priors = append(priors, elicit.NamedPrior{Name: m.Expert.Name, Prior: m.Fit.Dist.Beta})
+		}
+	}
+	pool := func(name string, p Panel) {
+		switch {
+		case p.PoolErr != nil:
+			skipped = append(skipped, fmt.Sprintf("%s: %v", name, p.PoolErr))
+		case p.Single == nil:
+			skipped = append(skipped, fmt.Sprintf("%s: no single Beta: %v", name, p.SingleErr))
+		default:
+			priors = append(priors, elicit.NamedPrior{Name: name, Prior: p.Single.Dist.Beta})
+		}
+	}
+	pool("Equal-weight pool", equal)
+	if perf != nil {
+		in.Weights = *perf
+		pool("Performance-weight pool", PanelState(in))
+	}
+	if agreed != nil {
+		priors = append(priors, elicit.NamedPrior{Name: "Agreed prior", Prior: agreed.Dist.Beta})
+	}
+	return priors, skipped
+}
+
+// UpdateLevel is the credible level of the intervals an update reports.
+const UpdateLevel = 0.95
+
+// Update is a question's agreed prior updated with every batch of data
+// recorded for it: the posterior Beta(α + s, β + n − s) (elicit.Posterior),
+// its 95% equal-tailed and highest-density intervals, and the prior–data
+// conflict check (elicit.ConflictCheck) with its reading in words. The
+// numbers are those of `parley update` for the same prior and totals.
+type Update struct {
+	Prior     elicit.Beta     `json:"prior"`
+	Successes int             `json:"successes"`
+	Trials    int             `json:"trials"`
+	Batches   int             `json:"batches"`
+	Level     float64         `json:"level"`
+	Posterior elicit.Beta     `json:"posterior"`
+	Mean      float64         `json:"mean"`
+	SD        float64         `json:"sd"`
+	Interval  [2]float64      `json:"interval"`
+	HDI       [2]float64      `json:"hdi"`
+	Conflict  elicit.Conflict `json:"prior_data_conflict"`
+	Reading   string          `json:"conflict_reading"`
+}
+
+// StudyUpdate updates the agreed prior p of a proportion question with
+// the question's recorded batches. It fails with ErrNoAgreedPrior
+// wrapped when there are no data, and with elicit's input errors when the
+// prior is not on [0, 1].
+func StudyUpdate(q Question, p AgreedPrior, data []StudyData) (Update, error) {
+	if !q.IsProportion() || p.Dist.Lower != 0 || p.Dist.Upper != 1 {
+		return Update{}, inputErr("question", elicit.RuleUnknown, "binomial data update a proportion on [0, 1]")
+	}
+	s, n, batches := DataTotals(data, q.ID)
+	if batches == 0 {
+		return Update{}, ErrNoData
+	}
+	prior := p.Dist.Beta
+	post, err := elicit.Posterior(prior, s, n)
+	if err != nil {
+		return Update{}, err
+	}
+	lo, hi, err := elicit.EqualTailed(post, UpdateLevel)
+	if err != nil {
+		return Update{}, err
+	}
+	hlo, hhi, err := elicit.HDI(post, UpdateLevel)
+	if err != nil {
+		return Update{}, err
+	}
+	c, err := elicit.ConflictCheck(prior, s, n)
+	if err != nil {
+		return Update{}, err
+	}
+	return Update{Prior: prior, Successes: s, Trials: n, Batches: batches, Level: UpdateLevel,
+		Posterior: post, Mean: post.Mean(), SD: post.SD(),
+		Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi},
+		Conflict: c, Reading: ConflictReading(c)}, nil
+}
+
+// ConflictReading says in plain words what a prior–data conflict check
+// found. The cut-offs 0.05 and 0.01 on the doubled smaller tail are
+// common practice, no source: they grade the surprise, they do not
+// decide anything.
+func ConflictReading(c elicit.Conflict) string {
+	side := "fewer"
+	if c.Upper < c.Lower {
+		side = "more"
+	}
+	switch p := c.TwoSided; {
+	case p < 0.01:
+		return fmt.Sprintf("The data conflict with the prior: %d successes in %d trials is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", c.Successes, c.Trials, side, p)
+	case p < 0.05:
+		return fmt.Sprintf("The data are surprising under the prior: %d successes in %d trials is %s than the prior expected (two-sided tail probability %.2g). Look at the prior and the data again.", c.Successes, c.Trials, side, p)
+	}
+	return fmt.Sprintf("No sign of conflict: %d successes in %d trials is well within what the prior expected (two-sided tail probability %.2g).", c.Successes, c.Trials, c.TwoSided)
+}

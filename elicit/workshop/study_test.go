@@ -1,0 +1,141 @@
+package workshop
+
+import (
+	"errors"
+	"math"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// ComparedPriors lists each pooled expert's own fit (A's current one, B;
+// not the revoked C, nor E who cannot be fitted), the equal-weight pool's
+// and the performance-weight pool's single Betas as PanelState forms them,
+// and the agreed prior last.
+func TestComparedPriors(t *testing.T) {
+	in := panelCase()
+	perf := Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 0.9, 2: 0.1}}
+	agreed := AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 12})}
+	got, skipped := ComparedPriors(in, &perf, &agreed)
+	in.Weights = Weights{Scheme: WeightsEqual}
+	equal := PanelState(in)
+	in.Weights = perf
+	byPerf := PanelState(in)
+	want := []elicit.NamedPrior{
+		{Name: "A", Prior: mustFit(t, in.Question, 0.1, 0.25, 0.45).Beta},
+		{Name: "B", Prior: mustFit(t, in.Question, 0.02, 0.08, 0.2).Beta},
+		{Name: "Equal-weight pool", Prior: equal.Single.Dist.Beta},
+		{Name: "Performance-weight pool", Prior: byPerf.Single.Dist.Beta},
+		{Name: "Agreed prior", Prior: elicit.Beta{Alpha: 3, Beta: 12}},
+	}
+	if len(skipped) != 0 || len(got) != len(want) {
+		t.Fatalf("got %+v, skipped %v", got, skipped)
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Errorf("[%d] %+v, want %+v", i, got[i], want[i])
+		}
+	}
+	// The weights make a difference: 0.9 on A moves the pool towards A.
+	if !(byPerf.Single.Dist.Mean() > equal.Single.Dist.Mean()) {
+		t.Errorf("performance pool mean %v, equal %v", byPerf.Single.Dist.Mean(), equal.Single.Dist.Mean())
+	}
+	// Without performance weights or an agreed prior, those rows go.
+	got, _ = ComparedPriors(panelCase(), nil, nil)
+	if len(got) != 3 || got[2].Name != "Equal-weight pool" {
+		t.Errorf("without them: %+v", got)
+	}
+}
+
+// StudyUpdate sums the batches (Beta(3, 12) with 2 in 10 and 1 in 5 is
+// Beta(6, 24) by the conjugate update, BDA3 §2.4) and reports the numbers
+// of elicit's functions.
+func TestStudyUpdate(t *testing.T) {
+	q := Question{ID: 4, Lower: 0, Upper: 1}
+	p := AgreedPrior{QuestionID: 4, Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 12})}
+	data := []StudyData{{QuestionID: 4, Successes: 2, Trials: 10}, {QuestionID: 5, Successes: 9, Trials: 9}, {QuestionID: 4, Successes: 1, Trials: 5}}
+	u, err := StudyUpdate(q, p, data)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if u.Successes != 3 || u.Trials != 15 || u.Batches != 2 || u.Posterior != (elicit.Beta{Alpha: 6, Beta: 24}) || math.Abs(u.Mean-0.2) > 1e-15 {
+		t.Fatalf("update %+v", u)
+	}
+	c, _ := elicit.ConflictCheck(p.Dist.Beta, 3, 15)
+	if u.Conflict != c || u.Reading != ConflictReading(c) {
+		t.Errorf("conflict %+v", u.Conflict)
+	}
+	if _, err := StudyUpdate(q, p, nil); !errors.Is(err, ErrNoData) {
+		t.Errorf("without data: %v", err)
+	}
+	q.Upper = 10
+	var ie *elicit.InputError
+	if _, err := StudyUpdate(q, p, data); !errors.As(err, &ie) {
+		t.Errorf("a question on [0, 10]: %v", err)
+	}
+}
+
+// The conflict reading grades the doubled smaller tail at 0.05 and 0.01
+// (common practice, no source) and says which way the data lean.
+func TestConflictReading(t *testing.T) {
+	for _, c := range []struct {
+		conflict elicit.Conflict
+		starts   string
+		side     string
+	}{
+		{elicit.Conflict{Successes: 3, Trials: 100, Lower: 0.4, Upper: 0.7, TwoSided: 0.8}, "No sign of conflict", ""},
+		{elicit.Conflict{Successes: 12, Trials: 100, Lower: 0.99, Upper: 0.02, TwoSided: 0.04}, "The data are surprising", "more"},
+		{elicit.Conflict{Successes: 0, Trials: 100, Lower: 0.001, Upper: 1, TwoSided: 0.002}, "The data conflict with the prior", "fewer"},
+	} {
+		r := ConflictReading(c.conflict)
+		if !strings.HasPrefix(r, c.starts) || (c.side != "" && !strings.Contains(r, c.side+" than the prior expected")) {
+			t.Errorf("%+v: %q", c.conflict, r)
+		}
+	}
+}
+
+func TestStudyDataRules(t *testing.T) {
+	ok := StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}
+	if err := ok.Validate(); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct {
+		d     StudyData
+		field string
+	}{
+		{StudyData{Successes: 2, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}, "successes"},
+		{StudyData{Successes: -1, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}, "successes"},
+		{StudyData{Successes: 0, Trials: elicit.MaxUpdateTrials + 1, Source: "log", ObservedOn: "2027-01-01"}, "trials"},
+		{StudyData{Successes: 0, Trials: 1, Source: "", ObservedOn: "2027-01-01"}, "source"},
+		{StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "1 Jan 2027"}, "observed_on"},
+	} {
+		var ie *elicit.InputError
+		if err := c.d.Validate(); !errors.As(err, &ie) || ie.Field != c.field {
+			t.Errorf("%+v: %v, want field %s", c.d, err, c.field)
+		}
+	}
+	if err := CheckDataTotal(elicit.MaxUpdateTrials-5, StudyData{Trials: 6}); err == nil {
+		t.Error("a total beyond the update's limit was accepted")
+	}
+}
+
+// A constructed prior keeps inputs that make its Beta; other sources keep
+// none.
+func TestAgreedPriorCheckSource(t *testing.T) {
+	in := elicit.ConstructionInput{Method: elicit.MethodUniform, Upper: 1}
+	good := AgreedPrior{Source: PriorFromConstruction, Dist: elicit.Unit(elicit.Uniform()), Construction: &in}
+	if err := good.CheckSource(); err != nil || good.ConstructionWords() == "" {
+		t.Fatalf("%v, %q", err, good.ConstructionWords())
+	}
+	for _, bad := range []AgreedPrior{
+		{Source: PriorFromConstruction, Dist: elicit.Unit(elicit.Uniform())},
+		{Source: PriorFromConstruction, Dist: elicit.Unit(elicit.Beta{Alpha: 1, Beta: 2}), Construction: &in},
+		{Source: PriorFromPool, Dist: elicit.Unit(elicit.Uniform()), Construction: &in},
+		{Source: "vote", Dist: elicit.Unit(elicit.Uniform())},
+	} {
+		if err := bad.CheckSource(); err == nil {
+			t.Errorf("%+v accepted", bad)
+		}
+	}
+}

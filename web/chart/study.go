@@ -1,0 +1,352 @@
+package chart
+
+import (
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+
+	"github.com/a-h/templ"
+)
+
+// The study's pictures: the prior predictive distribution of a planned
+// study's successes as bars (Predictive), the assurance over the number
+// of trials (Assurance) and the posterior interval under each of several
+// priors (Intervals). Each is one plot drawn, like the curve pictures, in
+// a wide and a compact layout (plotLayouts), with a caption in words; the
+// page carries the table of numbers beside it.
+
+// plotLayout is one drawing size of a single-plot picture.
+type plotLayout struct {
+	Name                    string
+	Left, PlotW, Right, Top float64
+	PlotH, Below            float64
+	XTicks, YTicks          int
+}
+
+func (l plotLayout) width() float64 { return l.Left + l.PlotW + l.Right }
+
+var plotLayouts = [...]plotLayout{
+	{Name: "wide", Left: 70, PlotW: 540, Right: 30, Top: 20, PlotH: 220, Below: 58, XTicks: 8, YTicks: 4},
+	{Name: "compact", Left: 64, PlotW: 278, Right: 18, Top: 20, PlotH: 180, Below: 62, XTicks: 4, YTicks: 4},
+}
+
+// plotGeom is one plot area with its ticks, in one layout.
+type plotGeom struct {
+	ID, Layout, ViewBox string
+	Axes                axesGeom
+	XTicks              []tickGeom
+	XLabelY             string
+	XTitle              string
+	XTitleX, XTitleY    string
+	f                   frame
+}
+
+// newPlot lays out one plot over [x0, x1] × [y0, y1] in lay, with the
+// y axis labelled by yLabel (nil: the tick's own label).
+func newPlot(id string, lay plotLayout, x0, x1, y0, y1 float64, xTitle, yTitle string, yLabel func(float64) string) plotGeom {
+	f := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.PlotH, X0: x0, X1: x1, Y0: y0, Y1: y1}
+	g := plotGeom{ID: id, Layout: lay.Name, f: f, XTitle: xTitle}
+	height := lay.Top + lay.PlotH + lay.Below
+	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(height)
+	g.Axes = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height),
+		Right: coord(f.right()), Bottom: coord(f.bottom()), YTitle: yTitle, Class: "plot-study"}
+	for _, t := range ticks(y0, y1, lay.YTicks) {
+		label := t.Label
+		if yLabel != nil {
+			label = yLabel(t.Value)
+		}
+		g.Axes.YTicks = append(g.Axes.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: label, Value: t.Label})
+	}
+	tx, ty := f.Left-lay.Left*5/7, f.Top+f.Height/2
+	if lay.Name == "compact" {
+		tx = 15
+	}
+	g.Axes.YTitleX, g.Axes.YTitleY = coord(tx), coord(ty)
+	g.Axes.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
+	for _, t := range ticks(x0, x1, lay.XTicks) {
+		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: t.Label})
+	}
+	g.XLabelY = coord(f.bottom() + 18)
+	g.XTitleX, g.XTitleY = coord(f.Left+f.Width/2), coord(f.bottom()+42)
+	return g
+}
+
+// wholeTicks drops the ticks of a count axis that are not whole numbers.
+func (g *plotGeom) wholeTicks() {
+	var kept []tickGeom
+	for _, t := range g.XTicks {
+		if v, err := strconv.ParseFloat(t.Value, 64); err == nil && v == math.Trunc(v) {
+			kept = append(kept, t)
+		}
+	}
+	g.XTicks = kept
+}
+
+// PredictiveView is the prior predictive distribution of the number of
+// successes in Trials trials, P(X = x) for x = 0…Trials; outcomes from
+// SuccessFrom to SuccessTo (when Success is set) are the ones that meet
+// the study's success criterion and are drawn darker.
+type PredictiveView struct {
+	ID                     string
+	Trials                 int
+	PMF                    []float64
+	Success                bool
+	SuccessFrom, SuccessTo int
+}
+
+type barGeom struct {
+	X, Y, W, H string
+	Success    bool
+}
+
+type predictiveDrawing struct {
+	Plot plotGeom
+	Bars []barGeom
+}
+
+type predictiveModel struct {
+	ID, Title, Desc string
+	Drawings        []predictiveDrawing
+	Invalid         string
+}
+
+// predictiveTail is the predictive probability left out of the picture
+// at each end: outcomes further out are drawn as nothing at this scale.
+const predictiveTail = 5e-4
+
+// Predictive draws the prior predictive distribution as bars.
+func Predictive(v PredictiveView) templ.Component { return predictiveFigure(newPredictiveModel(v)) }
+
+func newPredictiveModel(v PredictiveView) predictiveModel {
+	m := predictiveModel{ID: v.ID}
+	if len(v.PMF) == 0 {
+		m.Invalid = "No predictive distribution to draw."
+		return m
+	}
+	// The window: from the outcome below which lies predictiveTail to the
+	// one above which lies as much.
+	lo, hi, cum, top := 0, len(v.PMF)-1, 0.0, 0.0
+	for x, p := range v.PMF {
+		cum += p
+		if cum <= predictiveTail {
+			lo = x + 1
+		}
+		top = math.Max(top, p)
+	}
+	cum = 0
+	for x := len(v.PMF) - 1; x >= 0; x-- {
+		cum += v.PMF[x]
+		if cum <= predictiveTail {
+			hi = x - 1
+		}
+	}
+	if hi < lo {
+		lo, hi = 0, len(v.PMF)-1
+	}
+	for i, lay := range plotLayouts {
+		id := m.ID
+		if i > 0 {
+			id += "-" + lay.Name
+		}
+		g := newPlot(id, lay, float64(lo)-0.5, float64(hi)+0.5, 0, top*1.08,
+			fmt.Sprintf("number of successes in %d trials", v.Trials), "probability", nil)
+		g.wholeTicks()
+		d := predictiveDrawing{Plot: g}
+		bw := g.f.Width / float64(hi-lo+1)
+		gap := math.Min(1, bw*0.15)
+		for x := lo; x <= hi; x++ {
+			p := v.PMF[x]
+			y := g.f.py(p)
+			d.Bars = append(d.Bars, barGeom{X: coord(g.f.px(float64(x)-0.5) + gap/2), Y: coord(y), W: coord(math.Max(bw-gap, 0.3)),
+				H: coord(g.f.bottom() - y), Success: v.Success && x >= v.SuccessFrom && x <= v.SuccessTo})
+		}
+		m.Drawings = append(m.Drawings, d)
+	}
+	m.Title = fmt.Sprintf("Prior predictive distribution of the successes in %d trials", v.Trials)
+	var b strings.Builder
+	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %d trials before any data, under the prior. ", v.Trials)
+	if lo > 0 || hi < len(v.PMF)-1 {
+		fmt.Fprintf(&b, "Outcomes from %d to %d are drawn; the rest together have probability under %s. ", lo, hi, FormatPercent(2*predictiveTail))
+	}
+	if v.Success {
+		if v.SuccessFrom > v.SuccessTo {
+			b.WriteString("No outcome meets the success criterion.")
+		} else {
+			fmt.Fprintf(&b, "Dark bars: the outcomes that meet the success criterion (%d to %d successes).", v.SuccessFrom, v.SuccessTo)
+		}
+	}
+	m.Desc = strings.TrimSpace(b.String())
+	return m
+}
+
+// AssuranceView is the assurance (the prior predictive probability that
+// the study meets its success criterion) at each number of trials in
+// Trials, with the planned number Planned marked.
+type AssuranceView struct {
+	ID        string
+	Trials    []int
+	Assurance []float64
+	Planned   int
+}
+
+type assuranceDrawing struct {
+	Plot             plotGeom
+	Path             string
+	Dots             []dotGeom
+	MarkX, MarkLabel string
+	MarkLabelX       string
+	MarkAnchor       string
+}
+
+type dotGeom struct{ X, Y, Value string }
+
+type assuranceModel struct {
+	ID, Title, Desc string
+	Drawings        []assuranceDrawing
+	Invalid         string
+}
+
+// Assurance draws the assurance curve over the number of trials.
+func Assurance(v AssuranceView) templ.Component { return assuranceFigure(newAssuranceModel(v)) }
+
+func newAssuranceModel(v AssuranceView) assuranceModel {
+	m := assuranceModel{ID: v.ID}
+	if len(v.Trials) == 0 || len(v.Trials) != len(v.Assurance) {
+		m.Invalid = "No assurance curve to draw."
+		return m
+	}
+	last := float64(v.Trials[len(v.Trials)-1])
+	for i, lay := range plotLayouts {
+		id := m.ID
+		if i > 0 {
+			id += "-" + lay.Name
+		}
+		g := newPlot(id, lay, 0, last, 0, 1, "number of trials in the study", "assurance", func(y float64) string { return FormatPercent(y) })
+		g.wholeTicks()
+		d := assuranceDrawing{Plot: g}
+		xs, ys := make([]float64, len(v.Trials)), v.Assurance
+		for k, n := range v.Trials {
+			xs[k] = float64(n)
+			d.Dots = append(d.Dots, dotGeom{X: coord(g.f.px(xs[k])), Y: coord(g.f.py(ys[k])), Value: FormatValue(ys[k])})
+		}
+		d.Path, _ = g.f.linePath(xs, ys)
+		if v.Planned > 0 {
+			x := g.f.px(float64(v.Planned))
+			d.MarkX, d.MarkLabel = coord(x), fmt.Sprintf("planned: %d", v.Planned)
+			d.MarkLabelX, d.MarkAnchor = coord(x-4), "end"
+			if x < g.f.Left+g.f.Width/2 {
+				d.MarkLabelX, d.MarkAnchor = coord(x+4), "start"
+			}
+		}
+		m.Drawings = append(m.Drawings, d)
+	}
+	m.Title = "Assurance over the number of trials"
+	first, end := v.Assurance[0], v.Assurance[len(v.Assurance)-1]
+	m.Desc = fmt.Sprintf("The probability, before any data and under the prior, that the study meets its success criterion, at %d numbers of trials from %d to %d: %s at %d trials and %s at %d. The curve has steps because the number of successes is a whole number.",
+		len(v.Trials), v.Trials[0], v.Trials[len(v.Trials)-1], FormatPercent(first), v.Trials[0], FormatPercent(end), v.Trials[len(v.Trials)-1])
+	return m
+}
+
+// IntervalsView is one posterior interval per prior, side by side: the
+// row's label, its mean and its interval.
+type IntervalsView struct {
+	ID     string
+	Title  string
+	XTitle string
+	Rows   []IntervalRow
+}
+
+// IntervalRow is one prior's posterior summary; Emphasis draws it
+// heavier (the agreed prior).
+type IntervalRow struct {
+	Label    string
+	Mean     float64
+	Lo, Hi   float64
+	Emphasis bool
+}
+
+type intervalGeom struct {
+	Label, LabelY   string
+	Y, X1, X2, Mean string
+	Emphasis        bool
+}
+
+type intervalsDrawing struct {
+	Plot   plotGeom
+	LabelX string
+	Rows   []intervalGeom
+}
+
+type intervalsModel struct {
+	ID, Title, Desc string
+	Drawings        []intervalsDrawing
+	Invalid         string
+}
+
+// Intervals draws each row's interval as a line with a dot at its mean,
+// labelled on the left, one row under the other.
+func Intervals(v IntervalsView) templ.Component { return intervalsFigure(newIntervalsModel(v)) }
+
+// intervalRowH is the height of one row of Intervals, in SVG units.
+const intervalRowH = 30.0
+
+func newIntervalsModel(v IntervalsView) intervalsModel {
+	m := intervalsModel{ID: v.ID, Title: v.Title}
+	lo, hi := math.Inf(1), math.Inf(-1)
+	for _, r := range v.Rows {
+		if isFinite(r.Lo) && isFinite(r.Hi) {
+			lo, hi = math.Min(lo, r.Lo), math.Max(hi, r.Hi)
+		}
+	}
+	if len(v.Rows) == 0 || !(hi > lo) {
+		m.Invalid = "No intervals to draw."
+		return m
+	}
+	pad := (hi - lo) * 0.06
+	x0, x1 := math.Max(0, lo-pad), math.Min(1, hi+pad)
+	for i, base := range plotLayouts {
+		lay := base
+		// Room on the left for the labels; the plot is what is left.
+		labelW, chars := 190.0, 24
+		if lay.Name == "compact" {
+			labelW, chars = 132.0, 13
+		}
+		lay.PlotW = lay.PlotW + lay.Left - labelW - 8
+		lay.Left = labelW + 8
+		lay.PlotH = intervalRowH * float64(len(v.Rows))
+		lay.XTicks = 5
+		if lay.Name == "compact" {
+			lay.XTicks = 3
+		}
+		id := m.ID
+		if i > 0 {
+			id += "-" + lay.Name
+		}
+		g := newPlot(id, lay, x0, x1, 0, float64(len(v.Rows)), v.XTitle, "", func(float64) string { return "" })
+		g.Axes.YTicks = nil
+		d := intervalsDrawing{Plot: g, LabelX: coord(labelW)}
+		for k, r := range v.Rows {
+			y := g.f.Top + intervalRowH*(float64(k)+0.5)
+			d.Rows = append(d.Rows, intervalGeom{Label: clipLabel(r.Label, chars), LabelY: coord(y + 5), Y: coord(y),
+				X1: coord(g.f.px(r.Lo)), X2: coord(g.f.px(r.Hi)), Mean: coord(g.f.px(r.Mean)), Emphasis: r.Emphasis})
+		}
+		m.Drawings = append(m.Drawings, d)
+	}
+	var words []string
+	for _, r := range v.Rows {
+		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, FormatValue(r.Mean), FormatValue(r.Lo), FormatValue(r.Hi)))
+	}
+	m.Desc = "Each line is the posterior's interval under one prior, the dot its mean. " + strings.Join(words, "; ") + "."
+	return m
+}
+
+// clipLabel shortens a label to n characters with an ellipsis; the table
+// beside the picture has the full name.
+func clipLabel(s string, n int) string {
+	r := []rune(s)
+	if len(r) <= n {
+		return s
+	}
+	return string(r[:n-1]) + "…"
+}

@@ -1,0 +1,103 @@
+package chart
+
+import (
+	"math"
+	"strings"
+	"testing"
+)
+
+// The predictive picture draws one bar per outcome in its window, taller
+// for likelier outcomes, the successful ones darker; outcomes whose tails
+// hold under predictiveTail are left out and the caption says so.
+func TestPredictiveBars(t *testing.T) {
+	// A symmetric pmf over 0…20 with tiny tails at both ends.
+	pmf := make([]float64, 21)
+	total := 0.0
+	for x := range pmf {
+		pmf[x] = math.Exp(-0.5 * math.Pow(float64(x-10)/2.5, 2))
+		total += pmf[x]
+	}
+	for x := range pmf {
+		pmf[x] /= total
+	}
+	html := render(t, Predictive(PredictiveView{ID: "p", Trials: 20, PMF: pmf, Success: true, SuccessFrom: 0, SuccessTo: 8}))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	bars := find(ns, "rect", "bar")
+	dark := find(ns, "rect", "bar-success")
+	if len(bars) < 11 || len(bars) > 21 || len(bars)%2 == 0 {
+		t.Fatalf("%d bars for a symmetric window about 10", len(bars))
+	}
+	lo := 10 - len(bars)/2
+	if want := 8 - lo + 1; len(dark) != want {
+		t.Errorf("%d dark bars, want %d (outcomes %d to 8)", len(dark), want, lo)
+	}
+	// The tallest bar is the middle one, at 10.
+	mid := bars[len(bars)/2]
+	for _, b := range bars {
+		if b.num(t, "height") > mid.num(t, "height")+1e-9 {
+			t.Errorf("a bar taller than the mode's")
+		}
+	}
+	if lo > 0 && !strings.Contains(html, "Outcomes from") {
+		t.Error("the caption does not say which outcomes are drawn")
+	}
+	if got := render(t, Predictive(PredictiveView{ID: "p"})); !strings.Contains(got, "chart-invalid") {
+		t.Error("an empty distribution is drawn")
+	}
+}
+
+// The assurance curve has a dot per number of trials, at its height, and
+// the planned number marked.
+func TestAssuranceCurve(t *testing.T) {
+	v := AssuranceView{ID: "a", Trials: []int{10, 20, 30, 40}, Assurance: []float64{0, 0.25, 0.5, 1}, Planned: 40}
+	html := render(t, Assurance(v))
+	checkFinite(t, html)
+	ns := parse(t, html)
+	dots := find(ns, "circle", "assurance-dot")
+	if len(dots) != 4 {
+		t.Fatalf("%d dots", len(dots))
+	}
+	// Heights are linear in assurance: the 0.5 dot halfway between 0 and 1.
+	y0, y5, y1 := dots[0].num(t, "cy"), dots[2].num(t, "cy"), dots[3].num(t, "cy")
+	if math.Abs((y0+y1)/2-y5) > 0.02 {
+		t.Errorf("dots at %v, %v, %v", y0, y5, y1)
+	}
+	if len(find(ns, "line", "planned-mark")) != 1 || !strings.Contains(html, "planned: 40") {
+		t.Error("the planned trials are not marked")
+	}
+	if got := render(t, Assurance(AssuranceView{ID: "a", Trials: []int{1}})); !strings.Contains(got, "chart-invalid") {
+		t.Error("a curve without values is drawn")
+	}
+}
+
+// Intervals draws a row per prior, its line from the interval's low to
+// high end and a dot at its mean; the emphasised row heavier.
+func TestIntervalsRows(t *testing.T) {
+	v := IntervalsView{ID: "i", XTitle: "posterior proportion", Rows: []IntervalRow{
+		{Label: "A", Mean: 0.2, Lo: 0.1, Hi: 0.3},
+		{Label: "A very long name that must be shortened", Mean: 0.25, Lo: 0.2, Hi: 0.35},
+		{Label: "Agreed prior", Mean: 0.22, Lo: 0.15, Hi: 0.3, Emphasis: true},
+	}}
+	for _, lay := range []string{"wide", "compact"} {
+		html := renderLayout(t, Intervals(v), lay)
+		checkFinite(t, html)
+		ns := parse(t, html)
+		lines, means := find(ns, "line", "interval-line"), find(ns, "circle", "interval-mean")
+		if len(lines) != 3 || len(means) != 3 {
+			t.Fatalf("%s: %d lines, %d means", lay, len(lines), len(means))
+		}
+		for i, l := range lines {
+			x1, x2, m := l.num(t, "x1"), l.num(t, "x2"), means[i].num(t, "cx")
+			if !(x1 < m && m < x2) {
+				t.Errorf("%s row %d: mean at %v outside %v–%v", lay, i, m, x1, x2)
+			}
+		}
+		if lines[2].Attr["stroke-width"] != "4" {
+			t.Errorf("%s: the agreed prior is not drawn heavier", lay)
+		}
+		if !strings.Contains(html, "…") {
+			t.Errorf("%s: the long label is not shortened", lay)
+		}
+	}
+}

@@ -1,0 +1,260 @@
+package web
+
+import (
+	"fmt"
+	"net/http"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// Quick priors: a Beta prior from a few numbers, by elicit.Construct —
+// uniform, an equivalent prior sample, a mean and SD by the method of
+// moments, or a central interval with its coverage by both the moment
+// match and the exact quantile match side by side. A page of its own
+// (/w/{id}/quick-priors) shows them, and any of them can be recorded as a
+// question's agreed prior with a rationale, here or in the agreed-prior
+// section of the question's page; the record keeps the construction's
+// inputs (workshop.AgreedPrior.Construction).
+
+// quickPriorsPath is the workshop's quick-priors page.
+func quickPriorsPath(ws int64) string { return workshopPath(ws) + "/quick-priors" }
+
+// The construction form's fields. One form reads them for the quick-priors
+// page and the question page alike (readConstruction).
+const (
+	fieldConstruction = "construction"
+	// quickInterval on the quick-priors page asks for both interval
+	// methods side by side.
+	quickInterval = "interval"
+)
+
+// constructionAliases map elicit's field names to the form's.
+var constructionAliases = map[string]string{
+	"successes": "c_successes", "trials": "c_trials", "mean": "c_mean", "sd": "c_sd",
+	"low": "c_low", "high": "c_high", "coverage": "c_coverage", "interval": "c_high",
+	"lower": fieldConstruction, "upper": fieldConstruction, "method": fieldConstruction,
+}
+
+// constructionMethods are elicit's methods, as the form offers them.
+var constructionMethods = []string{string(elicit.MethodUniform), string(elicit.MethodEquivalentSample), string(elicit.MethodMeanSD),
+	string(elicit.MethodIntervalQuantiles), string(elicit.MethodIntervalMoments)}
+
+// constructionInput reads the inputs of method on q's scale from the
+// form, each number by the input rules; only the method's own fields are
+// read.
+func constructionInput(f *Form, q workshop.Question, method elicit.ConstructionMethod) elicit.ConstructionInput {
+	in := elicit.ConstructionInput{Method: method, Lower: q.Lower, Upper: q.Upper}
+	switch {
+	case method == elicit.MethodEquivalentSample:
+		in.Successes, in.Trials = f.Float("c_successes"), f.Float("c_trials")
+	case method == elicit.MethodMeanSD:
+		in.Mean, in.SD = f.Float("c_mean"), f.Float("c_sd")
+	case method.IsInterval():
+		in.Low, in.High, in.Coverage = f.Float("c_low"), f.Float("c_high"), f.Float("c_coverage")
+	}
+	return in
+}
+
+// construct makes the prior of in, recording elicit's refusal beside the
+// field it names.
+func construct(f *Form, in elicit.ConstructionInput) (elicit.Construction, bool) {
+	if !f.OK() {
+		return elicit.Construction{}, false
+	}
+	c, err := elicit.Construct(in)
+	if err != nil {
+		f.Fail(err, constructionAliases)
+		return elicit.Construction{}, false
+	}
+	return c, true
+}
+
+// quickResult is one constructed prior as the page shows it.
+type quickResult struct {
+	Title        string
+	Construction elicit.Construction
+	Worth        elicit.PriorWorth
+	Picture      chart.PanelView
+	Method       string // the elicit method, for recording it
+}
+
+// quickView is the quick-priors page.
+type quickView struct {
+	Workshop  workshop.Workshop
+	Questions []workshop.Question // those a prior can be recorded for
+	Question  *workshop.Question
+	Form      *Form
+	Results   []quickResult
+	AgreeForm *Form
+}
+
+func (s *Server) quickPriors(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	if name, n := repeatedField(r.URL.Query()); name != "" {
+		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d.", input.Clip(name, 40), n), http.StatusBadRequest)
+		return
+	}
+	s.showQuickPriors(w, r, ws, newForm(r.URL.Query()), nil)
+}
+
+// showQuickPriors draws the page for the construction form f, with the
+// recording form af shown again when it was refused.
+func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, f, af *Form) {
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := quickView{Workshop: ws, Form: f, AgreeForm: af}
+	if v.AgreeForm == nil {
+		v.AgreeForm = newForm(nil)
+	}
+	for _, q := range qs {
+		if !q.Calibration && !q.Retired {
+			v.Questions = append(v.Questions, q)
+		}
+	}
+	status := http.StatusOK
+	if len(f.Values) > 0 && len(v.Questions) > 0 {
+		v.Question, v.Results = readQuick(f, v.Questions)
+	}
+	if !f.OK() || !v.AgreeForm.OK() {
+		status = v.AgreeForm.refusedStatus()
+	}
+	m := facilitatorMeta(ws, "Quick priors", "quick-priors")
+	m.Caution = true
+	s.renderPage(w, r, status, m, quickPriorsPage(v))
+}
+
+// readQuick reads the quick-priors form: the question (its scale) and the
+// construction; for a central interval both methods.
+func readQuick(f *Form, qs []workshop.Question) (*workshop.Question, []quickResult) {
+	ids := make([]string, len(qs))
+	for i, q := range qs {
+		ids[i] = strconv.FormatInt(q.ID, 10)
+	}
+	var q *workshop.Question
+	chosen := f.Choice("question", ids[0], ids...)
+	for i := range qs {
+		if ids[i] == chosen {
+			q = &qs[i]
+		}
+	}
+	method := f.Choice(fieldConstruction, "", append([]string{quickInterval}, constructionMethods...)...)
+	if q == nil || !f.OK() {
+		return q, nil
+	}
+	methods := []elicit.ConstructionMethod{elicit.ConstructionMethod(method)}
+	if method == quickInterval {
+		methods = []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles}
+	}
+	var out []quickResult
+	for _, m := range methods {
+		c, ok := construct(f, constructionInput(f, *q, m))
+		if !ok {
+			return q, nil
+		}
+		out = append(out, quickResult{Title: methodTitle(m), Construction: c, Worth: elicit.Worth(c.Dist.Beta), Method: string(m),
+			Picture: chart.PanelView{ID: "quick-" + string(m), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper,
+				Curves: []chart.Curve{{Label: methodTitle(m), Role: chart.RoleAgreed, Dist: c.Dist}}}})
+	}
+	return q, out
+}
+
+// comparisonPicture overlays the interval's two methods.
+func comparisonPicture(v quickView) chart.PanelView {
+	q := v.Question
+	pv := chart.PanelView{ID: "quick-interval", Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	for _, res := range v.Results {
+		role, label := chart.RoleAgreed, "Exact quantile match"
+		if res.Method == string(elicit.MethodIntervalMoments) {
+			role, label = chart.RoleConsensus, "Moment match"
+		}
+		pv.Curves = append(pv.Curves, chart.Curve{Label: label, Role: role, Dist: res.Construction.Dist})
+	}
+	return pv
+}
+
+// methodTitle names a construction for people.
+func methodTitle(m elicit.ConstructionMethod) string {
+	switch m {
+	case elicit.MethodUniform:
+		return "Uniform"
+	case elicit.MethodEquivalentSample:
+		return "Equivalent prior sample"
+	case elicit.MethodMeanSD:
+		return "Mean and SD (method of moments)"
+	case elicit.MethodIntervalMoments:
+		return "Central interval, moment match"
+	case elicit.MethodIntervalQuantiles:
+		return "Central interval, exact quantile match"
+	}
+	return string(m)
+}
+
+// agreeQuickPrior records a constructed prior as a question's agreed
+// prior, from the quick-priors page: the construction is made again here
+// from the typed inputs (never taken from the page), with a rationale.
+func (s *Server) agreeQuickPrior(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	qs, err := s.store.Questions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	var targets []workshop.Question
+	for _, q := range qs {
+		if !q.Calibration && !q.Retired {
+			targets = append(targets, q)
+		}
+	}
+	if len(targets) == 0 {
+		s.notFound(w, r)
+		return
+	}
+	q, results := readQuick(f, targets)
+	rationale := f.Text("rationale", input.MaxLongText, true)
+	if ws.Open && !f.Checked("confirm_open") {
+		f.set("confirm_open", openRoundWarning(ws))
+	}
+	if f.OK() && len(results) == 1 && q != nil {
+		c := results[0].Construction
+		in := c.Input
+		p := workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction, Dist: c.Dist, Construction: &in,
+			Rationale: rationale, RoundOpen: f.Checked("confirm_open")}
+		switch err := s.store.AgreePrior(r.Context(), &p); {
+		case err == nil:
+			http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#agreed", http.StatusSeeOther)
+			return
+		case s.notSaved(r, f, err):
+		case isInputError(err):
+			f.Fail(err, constructionAliases)
+		default:
+			s.fail(w, r, err)
+			return
+		}
+	}
+	if f.OK() && len(results) != 1 {
+		f.set(fieldConstruction, string(RuleChoice))
+	}
+	// The construction is read again for the page, apart from the
+	// recording's own errors (a missing rationale must not hide it).
+	again := newForm(nil)
+	for k, v := range r.PostForm {
+		if k != "rationale" && k != "confirm_open" {
+			again.Values[k] = v
+		}
+	}
+	s.showQuickPriors(w, r, ws, again, f)
+}

@@ -1,0 +1,170 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// The quick-priors page makes each construction by elicit.Construct, the
+// function `parley prior` calls, and shows a central interval by both
+// methods side by side with the coverage each achieves and its picture.
+func TestQuickPriorsPage(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	qp := quickPriorsPath(ws.ID)
+	q := strconv.FormatInt(qs[0].ID, 10)
+	res, body := h.get(qp)
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "Quick priors") || !strings.Contains(body, "Caution.") {
+		t.Fatalf("quick priors page: %d", res.StatusCode)
+	}
+	// "Between 3% and 12%, 90% sure", by both methods.
+	res, body = h.get(qp + "?question=" + q + "&construction=interval&c_low=0.03&c_high=0.12&c_coverage=0.9")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("interval: %d", res.StatusCode)
+	}
+	for _, m := range []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles} {
+		c, err := elicit.Construct(elicit.ConstructionInput{Method: m, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, want := range []string{`id="result-` + string(m) + `"`, priorLabel(c.Dist), pct(c.CoverageAchieved), htmlEscape(c.Describe())} {
+			if !strings.Contains(body, want) {
+				t.Errorf("%s: page lacks %q", m, want)
+			}
+		}
+	}
+	if !strings.Contains(body, `id="quick-interval"`) {
+		t.Error("no picture of the two methods")
+	}
+	// "About 3 in 25": Beta(s, n − s), the convention stated.
+	_, body = h.get(qp + "?question=" + q + "&construction=equivalent_sample&c_successes=3&c_trials=25")
+	for _, want := range []string{"Beta(3, 22)", "s successes in n imagined trials give Beta(s, n − s)"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("equivalent sample: page lacks %q", want)
+		}
+	}
+	_, body = h.get(qp + "?question=" + q + "&construction=mean_sd&c_mean=0.1&c_sd=0.05")
+	c, _ := elicit.Construct(elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 0.1, SD: 0.05, Upper: 1})
+	if !strings.Contains(body, priorLabel(c.Dist)) {
+		t.Errorf("mean and sd: page lacks %s", priorLabel(c.Dist))
+	}
+}
+
+// Every field of the construction refuses bad input with 422 and the
+// field named.
+func TestQuickPriorsRefuseBadInput(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	qp := quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(qs[0].ID, 10) + "&"
+	for _, c := range []struct{ query, field string }{
+		{"construction=guess", "construction"},
+		{"construction=equivalent_sample&c_successes=&c_trials=25", "c_successes"},
+		{"construction=equivalent_sample&c_successes=30&c_trials=25", "c_successes"},
+		{"construction=equivalent_sample&c_successes=3&c_trials=1e400", "c_trials"},
+		{"construction=equivalent_sample&c_successes=3&c_trials=0", "c_trials"},
+		{"construction=mean_sd&c_mean=1.5&c_sd=0.1", "c_mean"},
+		{"construction=mean_sd&c_mean=0.1&c_sd=0.4", "c_sd"}, // sd² above m(1 − m)
+		{"construction=mean_sd&c_mean=0.1&c_sd=-1", "c_sd"},
+		{"construction=interval&c_low=0.12&c_high=0.03&c_coverage=0.9", "c_high"},
+		{"construction=interval&c_low=0.03&c_high=0.12&c_coverage=1", "c_coverage"},
+		{"construction=interval&c_low=0,03&c_high=0.12&c_coverage=0.9", "c_low"},
+		{"construction=interval&c_low=0.03&c_high=1.2&c_coverage=0.9", "c_high"},
+	} {
+		res, body := h.get(qp + c.query)
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) {
+			t.Errorf("%s: status %d, message beside %q: %v", c.query, res.StatusCode, c.field, hasFieldError(body, c.field))
+		}
+	}
+	if res, body := h.get(quickPriorsPath(ws.ID) + "?question=999&construction=uniform"); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "question") {
+		t.Errorf("unknown question: %d", res.StatusCode)
+	}
+}
+
+// A construction recorded as the agreed prior, from the quick-priors page
+// and from the question's page, keeps its inputs; the record, the priors
+// CSV and the page say which construction made it.
+func TestConstructionRecordedAsTheAgreedPrior(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	q := strconv.FormatInt(qs[0].ID, 10)
+	agree := quickPriorsPath(ws.ID) + "/agree"
+	form := url.Values{"question": {q}, "construction": {"interval_quantiles"}, "c_low": {"0.03"}, "c_high": {"0.12"}, "c_coverage": {"0.9"},
+		"rationale": {"Between 3% and 12%, 90% sure (invented)."}, "confirm_open": {"on"}}
+	// Refused first: no rationale, then a bad end; nothing saved.
+	before := h.counts(ws.ID)
+	bad := url.Values{}
+	for k, v := range form {
+		bad[k] = v
+	}
+	bad.Set("rationale", "")
+	if res, body := h.post(agree, bad); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "rationale") {
+		t.Errorf("without a rationale: %d", res.StatusCode)
+	}
+	bad.Set("rationale", "r")
+	bad.Set("c_high", "0.02")
+	if res, body := h.post(agree, bad); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "c_high") {
+		t.Errorf("high below low: %d", res.StatusCode)
+	}
+	bad.Set("c_high", "0.12")
+	bad.Set("construction", "interval")
+	if res, _ := h.post(agree, bad); res.StatusCode != http.StatusUnprocessableEntity {
+		t.Errorf("both methods at once: %d", res.StatusCode)
+	}
+	if h.counts(ws.ID) != before {
+		t.Fatal("a refused construction was saved")
+	}
+	if res, body := h.post(agree, form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record the construction: %d %s", res.StatusCode, body)
+	}
+	in := elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1}
+	want, _ := elicit.Construct(in)
+	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
+	cur := ps[len(ps)-1]
+	if cur.Source != workshop.PriorFromConstruction || cur.Construction == nil || *cur.Construction != in || cur.Dist != want.Dist {
+		t.Fatalf("stored %+v, want %+v from %+v", cur, want.Dist, in)
+	}
+	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
+	if !strings.Contains(panel, "quick construction: "+htmlEscape(want.Describe())) {
+		t.Error("the panel does not say which construction made the agreed prior")
+	}
+	_, js := h.get(workshopPath(ws.ID) + "/export.json")
+	rec, err := record.Parse(strings.NewReader(js))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := rec.Questions[0].AgreedPrior; a == nil || a.Construction == nil || *a.Construction != in {
+		t.Fatalf("record's agreed prior %+v", a)
+	}
+	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "a quick construction, "+htmlEscape(want.Describe())) {
+		t.Error("the decision log does not say which construction made the prior")
+	}
+	_, csv := h.get(workshopPath(ws.ID) + "/priors.csv")
+	if !strings.Contains(csv, "construction: central 90% interval [0.03, 0.12] by exact quantile match") {
+		t.Errorf("the priors CSV's source does not name the construction: %s", csv)
+	}
+
+	// From the question's page: "about 3 in 25".
+	qp := questionPath(ws.ID, qs[0].ID) + "/agree"
+	if res, body := h.post(qp, url.Values{"source": {"construction"}, "construction": {"equivalent_sample"}, "c_successes": {"3"},
+		"c_trials": {"2"}, "rationale": {"kept"}, "confirm_open": {"on"}}); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "c_successes") {
+		t.Errorf("3 in 2 from the panel: %d", res.StatusCode)
+	}
+	if res, body := h.post(qp, url.Values{"source": {"construction"}, "c_successes": {"3"}, "c_trials": {"25"}, "rationale": {"kept"},
+		"confirm_open": {"on"}}); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "construction") {
+		t.Errorf("no construction chosen: %d", res.StatusCode)
+	}
+	if res, body := h.post(qp, url.Values{"source": {"construction"}, "construction": {"equivalent_sample"}, "c_successes": {"3"},
+		"c_trials": {"25"}, "rationale": {"About 3 in 25 (invented)."}, "confirm_open": {"on"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("construction from the panel: %d %s", res.StatusCode, body)
+	}
+	ps, _ = h.db.AgreedPriors(ctx, ws.ID)
+	if cur := ps[len(ps)-1]; cur.Dist.Alpha != 3 || cur.Dist.Beta.Beta != 22 || cur.Construction == nil || cur.Construction.Method != elicit.MethodEquivalentSample {
+		t.Fatalf("from the panel: %+v", cur)
+	}
+}

@@ -1,0 +1,437 @@
+package web
+
+import (
+	"context"
+	"errors"
+	"fmt"
+	"net/http"
+	"sort"
+	"strconv"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// The study page of a question, "From the agreed prior to the study":
+// the project lead records observed data against the agreed prior and
+// sees the posterior; plans the study (prior predictive, assurance,
+// sample size); and compares the posterior under every expert's own fit,
+// the pools and the agreed prior. Every number is elicit's, through the
+// same functions `parley update` and `parley plan` call.
+
+// Defaults of the planning form when the page is opened afresh.
+const (
+	defaultPlanTrials = 100
+	// planCurvePoints is how many numbers of trials the assurance curve
+	// has, as in `parley plan`.
+	planCurvePoints = 40
+	// sampleSizeTime bounds the sample-size search of one page.
+	sampleSizeTime = 20 * time.Second
+)
+
+// studyPath is the question's study page.
+func studyPath(ws, q int64) string { return questionPath(ws, q) + "/study" }
+
+// studyView is the study page.
+type studyView struct {
+	Workshop   workshop.Workshop
+	Question   workshop.Question
+	Agreed     *workshop.AgreedPrior
+	Proportion bool
+	Data       []workshop.StudyData // this question's batches, oldest first
+	DataForm   *Form
+	Update     *workshop.Update
+	UpdateErr  string
+	UpdatePic  chart.PanelView
+	Plan       planView
+	Planned    *sensitivityBlock // posteriors at the planned study's typical outcome
+	Observed   *sensitivityBlock // posteriors for the recorded data
+	Skipped    []string          // priors left out of the comparison, and why
+}
+
+// priorChoice is one prior the study can be planned under.
+type priorChoice struct {
+	Value, Label string
+	Prior        elicit.Beta
+}
+
+// planView is the planning section: its form and what it computed.
+type planView struct {
+	Form             *Form
+	Choices          []priorChoice
+	Chosen           priorChoice
+	Ran              bool
+	Trials           int
+	Worth            elicit.PriorWorth
+	Share            float64 // the planned trials' weight in the posterior mean
+	PMF              []float64
+	PredMean, PredSD float64
+	PredQ            [3]int
+	PredPic          chart.PredictiveView
+	Goal             *elicit.SuccessCriterion
+	Assure           *elicit.AssuranceResult
+	Curve            []elicit.AssuranceResult
+	CurvePic         chart.AssuranceView
+	Size             *elicit.SampleSizeGoal
+	SizeRes          *elicit.SampleSizeResult
+	SizeAt           *elicit.CriterionResult // the criterion at the planned trials
+}
+
+// sensitivityBlock is the posterior under each compared prior for one
+// set of data (elicit.Sensitivity).
+type sensitivityBlock struct {
+	Successes, Trials int
+	Rows              []elicit.SensitivityRow
+	Picture           chart.IntervalsView
+}
+
+func (s *Server) studyPage(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok {
+		return
+	}
+	if name, n := repeatedField(r.URL.Query()); name != "" {
+		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d.", input.Clip(name, 40), n), http.StatusBadRequest)
+		return
+	}
+	s.showStudy(w, r, ws, q, nil)
+}
+
+// repeatedField is the first field given more than once, with its count.
+func repeatedField(v map[string][]string) (string, int) {
+	var names []string
+	for name, vs := range v {
+		if len(vs) > 1 {
+			names = append(names, name)
+		}
+	}
+	if len(names) == 0 {
+		return "", 0
+	}
+	sort.Strings(names)
+	return names[0], len(v[names[0]])
+}
+
+// showStudy draws the study page, with the data form df shown again when
+// it was refused. The page answers 422 when the data form or the
+// planning form was refused.
+func (s *Server) showStudy(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, q workshop.Question, df *Form) {
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	data, err := s.store.StudyData(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if df == nil {
+		df = newForm(nil)
+	}
+	v := buildStudy(r.Context(), d, q, data, df, newForm(r.URL.Query()))
+	status := http.StatusOK
+	if !df.OK() || !v.Plan.Form.OK() {
+		status = df.refusedStatus()
+	}
+	m := facilitatorMeta(ws, fmt.Sprintf("Q%d study: %s", q.Position, q.Quantity), "overview")
+	m.Caution = true
+	s.renderPage(w, r, status, m, studyPage(v))
+}
+
+// buildStudy computes the study page of question q from the workshop's
+// data: the update of the agreed prior, the plan asked for in pf, and the
+// comparison of priors.
+func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data []workshop.StudyData, df, pf *Form) studyView {
+	st := d.state(q)
+	v := studyView{Workshop: d.Workshop, Question: q, Agreed: st.current(), Proportion: q.IsProportion(), DataForm: df}
+	for _, b := range data {
+		if b.QuestionID == q.ID {
+			v.Data = append(v.Data, b)
+		}
+	}
+	v.Plan.Form = pf
+	if !v.Proportion {
+		return v
+	}
+	if v.Agreed != nil && len(v.Data) > 0 {
+		u, err := workshop.StudyUpdate(q, *v.Agreed, v.Data)
+		if err != nil {
+			v.UpdateErr = err.Error()
+		} else {
+			v.Update = &u
+			v.UpdatePic = updatePicture(q, u)
+		}
+	}
+	priors, skipped := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Fit: d.fit},
+		performanceWeights(d), v.Agreed)
+	v.Skipped = skipped
+	for i, p := range priors {
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, Prior: p.Prior})
+	}
+	if len(priors) == 0 {
+		return v
+	}
+	v.Plan = planStudy(ctx, v.Plan)
+	if v.Plan.Ran {
+		// A typical outcome of the planned study under the prior it is
+		// planned under: the median of that prior's predictive.
+		if outcomes, err := elicit.PlannedOutcomes(v.Plan.Chosen.Prior, v.Plan.Trials); err == nil {
+			v.Planned = compare(priors, outcomes[1], v.Plan.Trials, "planned")
+		}
+	}
+	if v.Update != nil {
+		v.Observed = compare(priors, v.Update.Successes, v.Update.Trials, "observed")
+	}
+	return v
+}
+
+// performanceWeights are the performance weights to compare under: those
+// in force, or else the ones the calibration page would offer (Cooke's
+// classical model with its cut-off optimised, workshop.ScorePerformance);
+// nil when the calibration questions cannot be scored yet.
+func performanceWeights(d workshopData) *workshop.Weights {
+	if d.Weights.Scheme == workshop.WeightsPerformance {
+		w := d.Weights
+		return &w
+	}
+	set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	if !set.Ready() {
+		return nil
+	}
+	p, err := workshop.ScorePerformance(set, nil)
+	if err != nil {
+		return nil
+	}
+	return &workshop.Weights{WorkshopID: d.Workshop.ID, Scheme: workshop.WeightsPerformance, ByExpert: p.WeightsByExpert()}
+}
+
+// updatePicture overlays the agreed prior, the likelihood of the data
+// scaled to a density (Beta(s + 1, n − s + 1), the posterior under a
+// uniform prior) and the posterior.
+func updatePicture(q workshop.Question, u workshop.Update) chart.PanelView {
+	lik := elicit.Beta{Alpha: float64(u.Successes) + 1, Beta: float64(u.Trials-u.Successes) + 1}
+	return chart.PanelView{ID: "update-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: 0, Upper: 1,
+		Curves: []chart.Curve{
+			{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: elicit.Unit(u.Prior)},
+			{Label: "Likelihood of the data, scaled", Role: chart.RoleLikelihood, Dist: elicit.Unit(lik)},
+			{Label: "Posterior", Role: chart.RolePosterior, Dist: elicit.Unit(u.Posterior)},
+		}}
+}
+
+// compare is the posterior under every prior for s successes in n trials.
+func compare(priors []elicit.NamedPrior, s, n int, id string) *sensitivityBlock {
+	rows, err := elicit.Sensitivity(priors, s, n, workshop.UpdateLevel)
+	if err != nil {
+		return nil
+	}
+	b := &sensitivityBlock{Successes: s, Trials: n, Rows: rows,
+		Picture: chart.IntervalsView{ID: "compare-" + id, XTitle: "posterior proportion",
+			Title: fmt.Sprintf("Posterior under each prior after %d successes in %d trials", s, n)}}
+	for _, r := range rows {
+		b.Picture.Rows = append(b.Picture.Rows, chart.IntervalRow{Label: r.Name, Mean: r.Mean, Lo: r.Interval[0], Hi: r.Interval[1],
+			Emphasis: r.Name == "Agreed prior"})
+	}
+	return b
+}
+
+// planStudy reads the planning form (defaults when it is empty) and
+// computes the plan by the functions `parley plan` calls: the prior
+// predictive (elicit.PriorPredictive, PredictiveMoments,
+// PredictiveQuantile), the prior's worth (elicit.Worth), the assurance
+// and its curve over elicit.PlanGrid(trials, 40) (elicit.Assurance,
+// AssuranceCurve), and the sample size (elicit.SampleSize) with the
+// criterion at the planned trials (elicit.CriterionValue).
+func planStudy(ctx context.Context, p planView) planView {
+	f := p.Form
+	if f.Value("trials") == "" && len(f.Values) == 0 {
+		f.Values.Set("trials", strconv.Itoa(defaultPlanTrials))
+	}
+	for name, def := range map[string]string{"level": "0.95", "criterion": string(elicit.CriterionALC),
+		"interval": string(elicit.IntervalEqual), "direction": string(elicit.DirectionBelow), "prior": p.Choices[len(p.Choices)-1].Value} {
+		if f.Value(name) == "" {
+			f.Values.Set(name, def)
+		}
+	}
+	values := make([]string, len(p.Choices))
+	for i, c := range p.Choices {
+		values[i] = c.Value
+	}
+	if i, err := strconv.Atoi(f.Choice("prior", "", values...)); err == nil {
+		p.Chosen = p.Choices[i]
+	}
+	p.Trials = f.Int("trials", 1, elicit.MaxPredictiveTrials)
+	if f.Value("threshold") != "" || f.Value("confidence") != "" {
+		g := elicit.SuccessCriterion{
+			Threshold:  f.Float("threshold"),
+			Direction:  elicit.Direction(f.Choice("direction", "", string(elicit.DirectionBelow), string(elicit.DirectionAbove))),
+			Confidence: f.Float("confidence"),
+		}
+		if f.OK() {
+			f.Fail(g.Validate(), nil)
+		}
+		p.Goal = &g
+	}
+	if f.Value("length") != "" {
+		g := elicit.SampleSizeGoal{
+			Length:    f.Float("length"),
+			Level:     f.Float("level"),
+			Criterion: elicit.Criterion(f.Choice("criterion", "", string(elicit.CriterionALC), string(elicit.CriterionACC), string(elicit.CriterionWOC))),
+			Interval:  elicit.IntervalKind(f.Choice("interval", "", string(elicit.IntervalEqual), string(elicit.IntervalHPD))),
+		}
+		g.Trim, _ = f.OptionalFloat("woc_trim")
+		if f.OK() {
+			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
+		}
+		p.Size = &g
+	}
+	if !f.OK() {
+		return p
+	}
+	prior := p.Chosen.Prior
+	pmf, err := elicit.PriorPredictive(prior, p.Trials)
+	if err != nil {
+		f.Fail(err, nil)
+		return p
+	}
+	p.PMF, p.Worth = pmf, elicit.Worth(prior)
+	p.Share = p.Worth.DataShare(p.Trials)
+	p.PredMean, p.PredSD = elicit.PredictiveMoments(prior, p.Trials)
+	p.PredQ = [3]int{elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95)}
+	p.PredPic = chart.PredictiveView{ID: "predictive", Trials: p.Trials, PMF: pmf}
+	if p.Goal != nil {
+		a, err := elicit.Assurance(prior, p.Trials, *p.Goal)
+		if err != nil {
+			f.Fail(err, nil)
+			return p
+		}
+		curve, err := elicit.AssuranceCurve(prior, *p.Goal, elicit.PlanGrid(p.Trials, planCurvePoints))
+		if err != nil {
+			f.Fail(err, nil)
+			return p
+		}
+		p.Assure, p.Curve = &a, curve
+		p.PredPic.Success, p.PredPic.SuccessFrom, p.PredPic.SuccessTo = true, a.SuccessFrom, a.SuccessTo
+		p.CurvePic = chart.AssuranceView{ID: "assurance", Planned: p.Trials}
+		for _, c := range curve {
+			p.CurvePic.Trials = append(p.CurvePic.Trials, c.Trials)
+			p.CurvePic.Assurance = append(p.CurvePic.Assurance, c.Assurance)
+		}
+	}
+	if p.Size != nil {
+		sctx, cancel := context.WithTimeout(ctx, sampleSizeTime)
+		res, err := elicit.SampleSize(sctx, prior, *p.Size)
+		cancel()
+		switch {
+		case errors.Is(err, context.DeadlineExceeded):
+			f.set("length", fmt.Sprintf("the search for the sample size took longer than %s; ask for a wider interval, or use parley plan on the command line", sampleSizeTime))
+		case err != nil:
+			f.Fail(err, nil)
+		default:
+			p.SizeRes = &res
+			if p.Trials <= elicit.MaxSampleSize {
+				if at, err := elicit.CriterionValue(prior, *p.Size, p.Trials); err == nil {
+					p.SizeAt = &at
+				}
+			}
+		}
+	}
+	p.Ran = true
+	return p
+}
+
+// recordData adds one batch of observed data to the question's agreed
+// prior: successes, trials, where they come from and the day observed,
+// each by the input rules; the store adds it with its event, append-only.
+func (s *Server) recordData(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	b := workshop.StudyData{QuestionID: q.ID,
+		Successes: f.Int("successes", 0, elicit.MaxUpdateTrials),
+		Trials:    f.Int("trials", 1, elicit.MaxUpdateTrials),
+		Source:    f.Text("source", input.MaxShortText, true),
+	}
+	date, err := input.Date("observed_on", f.Value("observed_on"))
+	f.failField("observed_on", err)
+	b.ObservedOn = date
+	if !q.IsProportion() {
+		f.set("", "Binomial data update a proportion on [0, 1]; this question's bounds are other, so no data can be recorded against it.")
+	}
+	if f.OK() {
+		f.Fail(b.Validate(), nil)
+	}
+	if f.OK() {
+		err := s.store.RecordData(r.Context(), &b)
+		switch {
+		case err == nil:
+			http.Redirect(w, r, studyPath(ws.ID, q.ID)+"#update", http.StatusSeeOther)
+			return
+		case errors.Is(err, workshop.ErrNoAgreedPrior):
+			f.set("", "This question has no agreed prior yet: record one on the question's page first, then the data that update it.")
+		case s.notSaved(r, f, err):
+		case isInputError(err):
+			f.Fail(err, nil)
+		default:
+			s.fail(w, r, err)
+			return
+		}
+	}
+	r.URL.RawQuery = ""
+	s.showStudy(w, r, ws, q, f)
+}
+
+// predictiveRow is one row of the predictive table.
+type predictiveRow struct{ X, P, Cum string }
+
+// predictiveRows lists the outcomes with predictive probability of at
+// least 1e-4, or the likeliest 60, with their cumulative probability.
+func predictiveRows(pmf []float64) []predictiveRow {
+	var rows []predictiveRow
+	cum := 0.0
+	for x, p := range pmf {
+		cum += p
+		if p >= 1e-4 {
+			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatValue(min(cum, 1))})
+		}
+	}
+	if len(rows) > 60 {
+		step := (len(rows) + 59) / 60
+		var thin []predictiveRow
+		for i := 0; i < len(rows); i += step {
+			thin = append(thin, rows[i])
+		}
+		rows = thin
+	}
+	return rows
+}
+
+// thinCurve keeps about ten points of the assurance curve for its table,
+// always the last (the planned trials).
+func thinCurve(c []elicit.AssuranceResult) []elicit.AssuranceResult {
+	if len(c) <= 10 {
+		return c
+	}
+	step := len(c) / 10
+	var out []elicit.AssuranceResult
+	for i := step - 1; i < len(c); i += step {
+		out = append(out, c[i])
+	}
+	if out[len(out)-1].Trials != c[len(c)-1].Trials {
+		out = append(out, c[len(c)-1])
+	}
+	return out
+}

@@ -1,0 +1,298 @@
+package web
+
+import (
+	"bufio"
+	"context"
+	"math"
+	"net/http"
+	"net/url"
+	"os"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// studyCounts is what a refused data form must leave unchanged.
+func (h *harness) studyCounts(wsID int64) [2]int {
+	h.t.Helper()
+	ds, err := h.db.StudyData(context.Background(), wsID)
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	ev, _ := h.db.Events(context.Background(), wsID)
+	return [2]int{len(ds), len(ev)}
+}
+
+// Data recorded against the demo's agreed prior accumulate, and the page,
+// the JSON record and the report show the update by the functions
+// `parley update` calls, with the same numbers.
+func TestStudyRecordsDataAndUpdates(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	res, body := h.get(sp)
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("study page: %d", res.StatusCode)
+	}
+	for _, want := range []string{"from the agreed prior to the study", "Caution.", "No data recorded yet.", "Record the data",
+		"Planning the study", "What the study may see", `id="predictive"`, "Whose judgement"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("fresh study page lacks %q", want)
+		}
+	}
+	if _, panel := h.get(questionPath(ws.ID, qs[0].ID)); !strings.Contains(panel, `href="`+sp+`"`) {
+		t.Error("the question's panel does not link to its study page")
+	}
+	for _, b := range []url.Values{
+		{"successes": {"3"}, "trials": {"120"}, "source": {"Site log, first quarter (invented)"}, "observed_on": {"2027-03-31"}},
+		{"successes": {"5"}, "trials": {"80"}, "source": {"Site log, second quarter (invented)"}, "observed_on": {"2027-06-30"}},
+	} {
+		if res, body := h.post(sp+"/data", b); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record data: %d %s", res.StatusCode, body)
+		}
+	}
+	ps, _ := h.db.AgreedPriors(context.Background(), ws.ID)
+	prior := ps[len(ps)-1].Dist.Beta
+	// What `parley update --alpha A --beta B --successes 8 --trials 200` computes.
+	post, _ := elicit.Posterior(prior, 8, 200)
+	lo, hi, _ := elicit.EqualTailed(post, 0.95)
+	hlo, hhi, _ := elicit.HDI(post, 0.95)
+	c, _ := elicit.ConflictCheck(prior, 8, 200)
+	_, body = h.get(sp)
+	for _, want := range []string{"All 2 batches", "Beta(" + fv(post.Alpha) + ", " + fv(post.Beta) + ")", fv(post.Mean()), fv(post.SD()),
+		fv(lo) + " to " + fv(hi), fv(hlo) + " to " + fv(hhi), htmlEscape(workshop.ConflictReading(c)), `id="update-q`,
+		"Likelihood of the data, scaled", "For the recorded data", "Site log, second quarter (invented)", "2027-06-30"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("study page lacks %q", want)
+		}
+	}
+	_, js := h.get(workshopPath(ws.ID) + "/export.json")
+	rec, err := record.Parse(strings.NewReader(js))
+	if err != nil {
+		t.Fatal(err)
+	}
+	u := rec.Questions[0].Update
+	if u == nil || u.Posterior != post || u.Interval != [2]float64{lo, hi} || u.HDI != [2]float64{hlo, hhi} || u.Conflict != c || len(rec.StudyData) != 2 {
+		t.Fatalf("record's update %+v, data %+v", u, rec.StudyData)
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	for _, want := range []string{"Observed data and the posterior", "Beta(" + fv(post.Alpha) + ", " + fv(post.Beta) + ")", "Site log, first quarter (invented)"} {
+		if !strings.Contains(report, want) {
+			t.Errorf("report lacks %q", want)
+		}
+	}
+	_, log := h.get(workshopPath(ws.ID) + "/log")
+	if !strings.Contains(log, "5 successes in 80 trials") {
+		t.Error("the decision log does not say what data were recorded")
+	}
+}
+
+// Every field of the data form refuses bad input with 422, the field
+// named, and nothing saved.
+func TestStudyDataRefusesBadInput(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	good := func(over map[string]string) url.Values {
+		v := url.Values{"successes": {"3"}, "trials": {"40"}, "source": {"kept source"}, "observed_on": {"2027-01-31"}}
+		for k, x := range over {
+			v.Set(k, x)
+		}
+		return v
+	}
+	for _, c := range []struct {
+		name, field string
+		form        url.Values
+	}{
+		{"successes empty", "successes", good(map[string]string{"successes": ""})},
+		{"successes negative", "successes", good(map[string]string{"successes": "-1"})},
+		{"successes fractional", "successes", good(map[string]string{"successes": "2.5"})},
+		{"successes above trials", "successes", good(map[string]string{"successes": "41"})},
+		{"trials zero", "trials", good(map[string]string{"trials": "0"})},
+		{"trials with separator", "trials", good(map[string]string{"trials": "1,000"})},
+		{"trials beyond the limit", "trials", good(map[string]string{"trials": "1000001"})},
+		{"source empty", "source", good(map[string]string{"source": "  "})},
+		{"source with a control character", "source", good(map[string]string{"source": "a\x07b"})},
+		{"source too long", "source", good(map[string]string{"source": strings.Repeat("é", 201)})},
+		{"date empty", "observed_on", good(map[string]string{"observed_on": ""})},
+		{"date not a day", "observed_on", good(map[string]string{"observed_on": "2027-02-30"})},
+		{"date day first", "observed_on", good(map[string]string{"observed_on": "31/01/2027"})},
+	} {
+		before := h.studyCounts(ws.ID)
+		res, body := h.post(sp+"/data", c.form)
+		if res.StatusCode != http.StatusUnprocessableEntity {
+			t.Errorf("%s: status %d, want 422", c.name, res.StatusCode)
+		}
+		if after := h.studyCounts(ws.ID); after != before {
+			t.Errorf("%s: something was saved", c.name)
+		}
+		if !hasFieldError(body, c.field) || !strings.Contains(body, "Nothing was saved") {
+			t.Errorf("%s: no message beside %q", c.name, c.field)
+		}
+		if c.field != "source" && !strings.Contains(body, "kept source") {
+			t.Errorf("%s: the typed source is not shown again", c.name)
+		}
+	}
+	// A question without an agreed prior takes no data.
+	before := h.studyCounts(ws.ID)
+	if res, body := h.post(studyPath(ws.ID, qs[2].ID)+"/data", good(nil)); res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "no agreed prior yet") {
+		t.Errorf("data without an agreed prior: %d", res.StatusCode)
+	}
+	if h.studyCounts(ws.ID) != before {
+		t.Error("data without an agreed prior were saved")
+	}
+	// A field sent twice is refused.
+	if res, _ := h.post(sp+"/data", url.Values{"successes": {"1", "2"}, "trials": {"40"}, "source": {"x"}, "observed_on": {"2027-01-31"}}); res.StatusCode != http.StatusBadRequest {
+		t.Errorf("successes twice: %d", res.StatusCode)
+	}
+}
+
+// Every field of the planning form refuses bad input with 422 and the
+// field named.
+func TestStudyPlanRefusesBadInput(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	for _, c := range []struct{ query, field string }{
+		{"trials=0", "trials"},
+		{"trials=ten", "trials"},
+		{"trials=1000001", "trials"},
+		{"trials=50&threshold=1.5&confidence=0.9", "threshold"},
+		{"trials=50&threshold=0.1&confidence=", "confidence"},
+		{"trials=50&threshold=0.1&confidence=0.9&direction=sideways", "direction"},
+		{"trials=50&length=0&level=0.95", "length"},
+		{"trials=50&length=0.05&level=1", "level"},
+		{"trials=50&length=0.05&level=0.95&criterion=best", "criterion"},
+		{"trials=50&length=0.05&level=0.95&interval=round", "interval"},
+		{"trials=50&prior=99", "prior"},
+		{"trials=50&length=0.05&level=0.95&criterion=alc&woc_trim=0.05", "woc_trim"},
+		{"trials=50&length=0.05&level=0.95&criterion=woc&woc_trim=1", "woc_trim"},
+		{"trials=50&length=0.000001&level=0.95&criterion=woc", "length"}, // no n up to 100,000 meets it
+	} {
+		res, body := h.get(sp + "?" + c.query)
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) {
+			t.Errorf("%s: status %d, message beside %q: %v", c.query, res.StatusCode, c.field, hasFieldError(body, c.field))
+		}
+	}
+	if res, _ := h.get(sp + "?trials=5&trials=6"); res.StatusCode != http.StatusBadRequest {
+		t.Errorf("trials twice: %d", res.StatusCode)
+	}
+}
+
+// planReference reads testdata/scipy/plan_reference.csv (SciPy's
+// brute-force enumeration; script and version in its first line) into
+// kind|alpha|beta|n|spec → value.
+func planReference(t *testing.T) map[string]float64 {
+	t.Helper()
+	f, err := os.Open("../testdata/scipy/plan_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	out := map[string]float64{}
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		p := strings.Split(sc.Text(), ",")
+		if len(p) < 6 || strings.HasPrefix(p[0], "#") || p[0] == "kind" {
+			continue
+		}
+		v, err := strconv.ParseFloat(p[5], 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		out[strings.Join(p[:5], "|")] = v
+	}
+	return out
+}
+
+// The plan the page computes is `parley plan`'s, by the same elicit
+// functions with the same arguments, and meets SciPy's brute force.
+func TestStudyPlanMatchesTheCommandLineAndSciPy(t *testing.T) {
+	ref := planReference(t)
+	prior := elicit.Beta{Alpha: 2, Beta: 38}
+	form := newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "threshold": {"0.08"}, "direction": {"below"}, "confidence": {"0.95"},
+		"length": {"0.06"}, "level": {"0.95"}, "criterion": {"alc"}, "interval": {"hpd"}})
+	p := planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Label: "Agreed prior", Prior: prior}}})
+	if !form.OK() || !p.Ran {
+		t.Fatalf("plan refused: %v", form.Errors)
+	}
+	// The command line's functions and arguments (cmd/parley/plan.go).
+	pmf, _ := elicit.PriorPredictive(prior, 100)
+	mean, sd := elicit.PredictiveMoments(prior, 100)
+	goal := elicit.SuccessCriterion{Threshold: 0.08, Direction: elicit.DirectionBelow, Confidence: 0.95}
+	a, _ := elicit.Assurance(prior, 100, goal)
+	curve, _ := elicit.AssuranceCurve(prior, goal, elicit.PlanGrid(100, 40))
+	size, _ := elicit.SampleSize(context.Background(), prior, elicit.SampleSizeGoal{Criterion: elicit.CriterionALC, Interval: elicit.IntervalHPD, Level: 0.95, Length: 0.06})
+	if len(p.PMF) != len(pmf) || p.PredMean != mean || p.PredSD != sd || *p.Assure != a || len(p.Curve) != len(curve) || p.SizeRes.N != size.N || p.SizeRes.At != size.At {
+		t.Fatalf("the page's plan differs from the command line's: %+v", p)
+	}
+	for i := range pmf {
+		if p.PMF[i] != pmf[i] {
+			t.Fatalf("P(X = %d): %v, command line %v", i, p.PMF[i], pmf[i])
+		}
+	}
+	for i := range curve {
+		if p.Curve[i] != curve[i] {
+			t.Fatalf("curve[%d]: %+v, command line %+v", i, p.Curve[i], curve[i])
+		}
+	}
+	// SciPy (testdata/scipy/plan_reference.py): assurance at 100 trials
+	// and the smallest n for ALC with 95% HPD intervals of length 0.06.
+	if want := ref["assurance|2.0|38.0|100|0.08:below:0.95"]; math.Abs(a.Assurance-want) > 1e-9 {
+		t.Errorf("assurance %v, SciPy %v", a.Assurance, want)
+	}
+	if _, ok := ref["samplesize|2.0|38.0|130|alc:hpd:0.95:0.06:0.0"]; !ok || p.SizeRes.N != 130 {
+		t.Errorf("sample size %d, SciPy 130 (row present: %v)", p.SizeRes.N, ok)
+	}
+	// The trimmed worst outcome: SciPy's smallest n is 103, and the
+	// criterion fails again at 106 (the page says so).
+	form = newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "length": {"0.1"}, "level": {"0.95"}, "criterion": {"woc"},
+		"interval": {"equal"}, "woc_trim": {"0.05"}})
+	p = planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+	if _, ok := ref["samplesize|2.0|38.0|103|woc:equal:0.95:0.1:0.05"]; !ok || p.SizeRes == nil || p.SizeRes.N != 103 || p.SizeRes.FailsAgainAt != 106 {
+		t.Errorf("trimmed WOC: %+v, SciPy 103, failing again at 106 (row present: %v)", p.SizeRes, ok)
+	}
+	// The predictive at 50 trials against SciPy's betabinom.
+	form = newForm(url.Values{"prior": {"0"}, "trials": {"50"}})
+	p = planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+	for x := 0; x <= 50; x++ {
+		want, ok := ref["predictive|2.0|38.0|50|"+strconv.Itoa(x)]
+		if ok && math.Abs(p.PMF[x]-want) > 1e-12*math.Max(want, 1e-300)+1e-300 && math.Abs(p.PMF[x]-want)/want > 1e-10 {
+			t.Errorf("P(X = %d) %v, SciPy %v", x, p.PMF[x], want)
+		}
+	}
+}
+
+// Through HTTP, the page shows the plan's numbers under the agreed prior.
+func TestStudyPlanPage(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 2, Trials: 40, Upper: 1}
+	c, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
+		Dist: c.Dist, Construction: &in, Rationale: "about 2 in 40 (invented)", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, body := h.get(sp)
+	// The agreed prior is the last choice and the default.
+	i := strings.Index(body, ">Agreed prior: Beta(2, 38)<")
+	if i < 0 || !strings.Contains(body[max(0, i-40):i], "selected") {
+		t.Fatalf("the agreed prior is not the default choice")
+	}
+	choice := body[strings.LastIndex(body[:i], `value="`)+7:]
+	choice = choice[:strings.Index(choice, `"`)]
+	res, body := h.get(sp + "?prior=" + choice + "&trials=100&threshold=0.08&direction=below&confidence=0.95&length=0.06&level=0.95&criterion=alc&interval=hpd")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("plan: %d", res.StatusCode)
+	}
+	for _, want := range []string{"54%", "130 trials", "at most 4 successes in 100 trials", `id="assurance"`, "planned: 100",
+		"This prior carries about as much information as 40 observed trials", "For the planned study"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("plan page lacks %q", want)
+		}
+	}
+}
