@@ -31,7 +31,7 @@ const (
 
 // NewBeta returns Beta(α, β) after checking that both are finite and
 // within [MinShape, MaxShape].
-func NewBeta(alpha, beta float64) (Beta, error) {
+func newBeta(alpha, beta float64) (Beta, error) {
 	d := Beta{Alpha: alpha, Beta: beta}
 	return d, d.Validate()
 }
@@ -169,7 +169,7 @@ type ScaledBeta struct {
 func Unit(d Beta) ScaledBeta { return ScaledBeta{Beta: d, Lower: 0, Upper: 1} }
 
 // NewScaledBeta checks the parameters and the bounds.
-func NewScaledBeta(alpha, beta, lower, upper float64) (ScaledBeta, error) {
+func newScaledBeta(alpha, beta, lower, upper float64) (ScaledBeta, error) {
 	d := ScaledBeta{Beta: Beta{alpha, beta}, Lower: lower, Upper: upper}
 	return d, d.Validate()
 }

@@ -87,7 +87,7 @@ func readReference(t *testing.T) []refRow {
 func TestBetaAgainstR(t *testing.T) {
 	var nq, np, nd int
 	for _, r := range readReference(t) {
-		d, err := NewBeta(r.alpha, r.beta)
+		d, err := newBeta(r.alpha, r.beta)
 		if err != nil {
 			t.Fatalf("reference shape: %v", err)
 		}
@@ -221,10 +221,10 @@ func TestBetaValidate(t *testing.T) {
 		{1, 1, 1, 1, "lower", RuleBoundsOrder},
 	}
 	for _, c := range cases {
-		_, err := NewScaledBeta(c.a, c.b, c.lo, c.hi)
+		_, err := newScaledBeta(c.a, c.b, c.lo, c.hi)
 		checkRule(t, err, c.field, c.rule)
 	}
-	if _, err := NewScaledBeta(2, 3, -1, 1); err != nil {
+	if _, err := newScaledBeta(2, 3, -1, 1); err != nil {
 		t.Errorf("valid scaled Beta rejected: %v", err)
 	}
 }

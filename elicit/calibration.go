@@ -716,7 +716,7 @@ func minimalInformation(q, probs []float64, lo, hi float64) PiecewiseUniform {
 // ClassicalModel, widened by overshoot (0 means DefaultOvershoot) and cut
 // to bounds when bounds is not nil. Experts missing from weights get
 // weight 0; the weights of the answering experts must not all be zero.
-func PoolMinimalInformation(answers map[string][]float64, probs []float64, weights map[string]float64, bounds *[2]float64, overshoot float64) (PiecewiseUniform, error) {
+func poolMinimalInformation(answers map[string][]float64, probs []float64, weights map[string]float64, bounds *[2]float64, overshoot float64) (PiecewiseUniform, error) {
 	if len(answers) == 0 {
 		return PiecewiseUniform{}, inputErr("answers", RuleCount, "need at least 1 expert, got 0")
 	}

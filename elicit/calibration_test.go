@@ -513,7 +513,7 @@ func TestDecisionMakerQuantiles(t *testing.T) {
 
 func TestPoolMinimalInformation(t *testing.T) {
 	answers := map[string][]float64{"A": {2, 5, 8}, "B": {4, 5, 6}}
-	d, err := PoolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 0}, nil, 0)
+	d, err := poolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 0}, nil, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -527,7 +527,7 @@ func TestPoolMinimalInformation(t *testing.T) {
 		t.Errorf("range [%v, %v], want [1.4, 8.6]", d.Quantile(0), d.Quantile(1))
 	}
 	// Bounds cut the range: [0, 8] → [1.4, 8].
-	d, err = PoolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
+	d, err = poolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -550,7 +550,7 @@ func TestPoolMinimalInformation(t *testing.T) {
 		{"non-increasing", map[string][]float64{"A": {2, 2, 8}}, map[string]float64{"A": 1}, RuleValueIncreasing},
 		{"none", nil, nil, RuleCount},
 	} {
-		_, err := PoolMinimalInformation(c.answers, seedProbs, c.weights, nil, 0)
+		_, err := poolMinimalInformation(c.answers, seedProbs, c.weights, nil, 0)
 		if !calHasRule(err, c.rule) {
 			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
 		}

@@ -31,16 +31,16 @@ func SpreadOfMedians(medians []float64) (MedianSpread, error) {
 	slices.Sort(s)
 	return MedianSpread{
 		Lowest:        s[0],
-		LowerQuartile: NearestRank(s, 0.25),
-		Median:        NearestRank(s, 0.5),
-		UpperQuartile: NearestRank(s, 0.75),
+		LowerQuartile: nearestRank(s, 0.25),
+		Median:        nearestRank(s, 0.5),
+		UpperQuartile: nearestRank(s, 0.75),
 		Highest:       s[len(s)-1],
 	}, nil
 }
 
 // NearestRank is the p-quantile of sorted (ascending, not empty) by the
 // nearest-rank rule: the ⌈p·n⌉-th smallest, the smallest for p ≤ 1/n.
-func NearestRank(sorted []float64, p float64) float64 {
+func nearestRank(sorted []float64, p float64) float64 {
 	k := int(math.Ceil(p*float64(len(sorted)))) - 1
 	return sorted[max(0, min(len(sorted)-1, k))]
 }

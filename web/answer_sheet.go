@@ -36,21 +36,21 @@ import (
 
 // Rules of answer sheets.
 const (
-	RuleSheetHeader  elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason)"
-	RuleSheetColumn  elicit.Rule = "is not a column of this question's format"
-	RuleSheetMissing elicit.Rule = "is required for this question's format"
-	RuleSheetRepeat  elicit.Rule = "one row per expert and question"
-	RuleSheetExpert  elicit.Rule = "names no active expert on this workshop's panel"
-	RuleSheetQuest   elicit.Rule = "names no question of this workshop that takes answers"
-	RuleSheetEmpty   elicit.Rule = "the sheet has no rows"
+	ruleSheetHeader  elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason)"
+	ruleSheetColumn  elicit.Rule = "is not a column of this question's format"
+	ruleSheetMissing elicit.Rule = "is required for this question's format"
+	ruleSheetRepeat  elicit.Rule = "one row per expert and question"
+	ruleSheetExpert  elicit.Rule = "names no active expert on this workshop's panel"
+	ruleSheetQuest   elicit.Rule = "names no question of this workshop that takes answers"
+	ruleSheetEmpty   elicit.Rule = "the sheet has no rows"
 )
 
 // MaxSheetRows bounds a sheet: a panel of 200 experts answering 50
 // questions.
-const MaxSheetRows = 10000
+const maxSheetRows = 10000
 
 // SheetRow is one row of a sheet, read and fitted.
-type SheetRow struct {
+type sheetRow struct {
 	Line     int // the row's line in the file
 	Expert   workshop.Expert
 	Question workshop.Question
@@ -68,7 +68,7 @@ func sheetErr(line int, column string, rule elicit.Rule, detail string, args ...
 // decimals, at least two (0.05 → q05, 0.5 → q50, 0.975 → q975). A
 // probability without a short decimal form (1/3) takes the two-digit
 // rounding (q33), the way people write it.
-func QuantileColumn(p float64) string {
+func quantileColumn(p float64) string {
 	for d := 2; d <= 6; d++ {
 		s := strconv.FormatFloat(p, 'f', d, 64)
 		if v, _ := strconv.ParseFloat(s, 64); math.Abs(v-p) < 1e-12 {
@@ -96,7 +96,7 @@ func sheetColumns(q workshop.Question) []string {
 	}
 	cols := make([]string, len(q.Probs))
 	for i, p := range q.Probs {
-		cols[i] = QuantileColumn(p)
+		cols[i] = quantileColumn(p)
 	}
 	return cols
 }
@@ -106,16 +106,16 @@ func sheetColumns(q workshop.Question) []string {
 // the first broken rule as an *elicit.InputError naming the row and the
 // column. Retired questions, calibration questions whose true value is
 // revealed, and revoked experts take no answers here either.
-func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []workshop.Expert) ([]SheetRow, error) {
+func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []workshop.Expert) ([]sheetRow, error) {
 	cr := csv.NewReader(r)
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	header, err := cr.Read()
 	if errors.Is(err, io.EOF) {
-		return nil, &elicit.InputError{Field: "sheet", Rule: RuleSheetEmpty}
+		return nil, &elicit.InputError{Field: "sheet", Rule: ruleSheetEmpty}
 	}
 	if err != nil {
-		return nil, sheetErr(1, "?", RuleSheetHeader, "%v", err)
+		return nil, sheetErr(1, "?", ruleSheetHeader, "%v", err)
 	}
 	known := map[string]bool{"expert": true, "question": true, "reason": true}
 	for _, q := range questions {
@@ -127,19 +127,19 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	for i, h := range header {
 		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
 		if !known[h] {
-			return nil, sheetErr(1, strconv.Quote(h), RuleSheetHeader, "no question of this workshop has a column %q", h)
+			return nil, sheetErr(1, strconv.Quote(h), ruleSheetHeader, "no question of this workshop has a column %q", h)
 		}
 		if _, dup := col[h]; dup {
-			return nil, sheetErr(1, strconv.Quote(h), RuleSheetHeader, "the column appears twice")
+			return nil, sheetErr(1, strconv.Quote(h), ruleSheetHeader, "the column appears twice")
 		}
 		col[h] = i
 	}
 	for _, need := range []string{"expert", "question"} {
 		if _, ok := col[need]; !ok {
-			return nil, sheetErr(1, need, RuleSheetHeader, "missing")
+			return nil, sheetErr(1, need, ruleSheetHeader, "missing")
 		}
 	}
-	var rows []SheetRow
+	var rows []sheetRow
 	seen := map[[2]int64]int{}
 	for {
 		rec, err := cr.Read()
@@ -152,10 +152,10 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 			if errors.As(err, &pe) {
 				line = pe.Line
 			}
-			return nil, sheetErr(line, "?", RuleSheetHeader, "not CSV: %v", err)
+			return nil, sheetErr(line, "?", ruleSheetHeader, "not CSV: %v", err)
 		}
-		if len(rows) == MaxSheetRows {
-			return nil, sheetErr(line, "?", elicit.RuleCountRange, "at most %d rows", MaxSheetRows)
+		if len(rows) == maxSheetRows {
+			return nil, sheetErr(line, "?", elicit.RuleCountRange, "at most %d rows", maxSheetRows)
 		}
 		cell := func(name string) string {
 			if i, ok := col[name]; ok && i < len(rec) {
@@ -169,31 +169,31 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 		}
 		key := [2]int64{row.Expert.ID, row.Question.ID}
 		if first, dup := seen[key]; dup {
-			return nil, sheetErr(line, "question", RuleSheetRepeat, "%s's answer to Q%d is also on row %d", row.Expert.Name, row.Question.Position, first)
+			return nil, sheetErr(line, "question", ruleSheetRepeat, "%s's answer to Q%d is also on row %d", row.Expert.Name, row.Question.Position, first)
 		}
 		seen[key] = line
 		rows = append(rows, row)
 	}
 	if len(rows) == 0 {
-		return nil, &elicit.InputError{Field: "sheet", Rule: RuleSheetEmpty}
+		return nil, &elicit.InputError{Field: "sheet", Rule: ruleSheetEmpty}
 	}
 	return rows, nil
 }
 
 // readSheetRow reads one row through the expert form's own parser and
 // elicit's rules.
-func readSheetRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (SheetRow, error) {
-	row := SheetRow{Line: line}
+func readSheetRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (sheetRow, error) {
+	row := sheetRow{Line: line}
 	var ok bool
 	if row.Expert, ok = findExpert(cell("expert"), experts); !ok {
-		return row, sheetErr(line, "expert", RuleSheetExpert, "%q", cell("expert"))
+		return row, sheetErr(line, "expert", ruleSheetExpert, "%q", cell("expert"))
 	}
 	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
-		return row, sheetErr(line, "question", RuleSheetQuest, "%q", cell("question"))
+		return row, sheetErr(line, "question", ruleSheetQuest, "%q", cell("question"))
 	}
 	q := row.Question
 	if q.Frozen() {
-		return row, sheetErr(line, "question", RuleSheetQuest, "Q%d's true value has been revealed, so its answers are final", q.Position)
+		return row, sheetErr(line, "question", ruleSheetQuest, "Q%d's true value has been revealed, so its answers are final", q.Position)
 	}
 	mine := sheetColumns(q)
 	own := map[string]bool{"expert": true, "question": true, "reason": true}
@@ -201,13 +201,13 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		own[c] = true
 		if cell(c) == "" {
 			if _, present := col[c]; !present || q.Format != workshop.FormatChips {
-				return row, sheetErr(line, c, RuleSheetMissing, "Q%d is asked as %s", q.Position, formatLabel(q))
+				return row, sheetErr(line, c, ruleSheetMissing, "Q%d is asked as %s", q.Position, formatLabel(q))
 			}
 		}
 	}
 	for name := range col {
 		if !own[name] && cell(name) != "" {
-			return row, sheetErr(line, name, RuleSheetColumn, "Q%d is asked as %s", q.Position, formatLabel(q))
+			return row, sheetErr(line, name, ruleSheetColumn, "Q%d is asked as %s", q.Position, formatLabel(q))
 		}
 	}
 	// Each cell by the form's own number rules, the answer by elicit's.
@@ -338,17 +338,17 @@ func sheetID(s string) (int64, bool) {
 }
 
 // RuleSheetRound is the rule that a sheet is saved into an open round.
-const RuleSheetRound elicit.Rule = "the workshop's round is closed, so no answer can be saved"
+const ruleSheetRound elicit.Rule = "the workshop's round is closed, so no answer can be saved"
 
 // SaveSheet saves the rows as revisions the facilitator entered from
 // channel, all in one transaction or none. A refusal by the store (the
 // round closed, a question revealed or retired, an expert revoked since
 // the sheet was read) comes back naming the row it concerns.
-func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []SheetRow, channel workshop.Channel) error {
+func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []sheetRow, channel workshop.Channel) error {
 	if !ws.Open && len(rows) > 0 {
-		return sheetErr(rows[0].Line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+		return sheetErr(rows[0].Line, "question", ruleSheetRound, "round %d is closed", ws.Round)
 	}
-	err := st.SaveRevisions(ctx, SheetRevisions(rows, channel))
+	err := st.SaveRevisions(ctx, sheetRevisions(rows, channel))
 	var i int
 	if err == nil || !strings.HasPrefix(err.Error(), "revisions[") {
 		return err
@@ -359,20 +359,20 @@ func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []Sheet
 	line := rows[i].Line
 	switch {
 	case errors.Is(err, workshop.ErrRoundClosed):
-		return sheetErr(line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+		return sheetErr(line, "question", ruleSheetRound, "round %d is closed", ws.Round)
 	case errors.Is(err, workshop.ErrAnswersFrozen):
-		return sheetErr(line, "question", RuleSheetQuest, "Q%d's true value has been revealed, so its answers are final", rows[i].Question.Position)
+		return sheetErr(line, "question", ruleSheetQuest, "Q%d's true value has been revealed, so its answers are final", rows[i].Question.Position)
 	case errors.Is(err, workshop.ErrRetired):
-		return sheetErr(line, "question", RuleSheetQuest, "Q%d is retired", rows[i].Question.Position)
+		return sheetErr(line, "question", ruleSheetQuest, "Q%d is retired", rows[i].Question.Position)
 	case errors.Is(err, workshop.ErrRevoked), errors.Is(err, workshop.ErrNotFound):
-		return sheetErr(line, "expert", RuleSheetExpert, "%s", rows[i].Expert.Name)
+		return sheetErr(line, "expert", ruleSheetExpert, "%s", rows[i].Expert.Name)
 	}
 	return err
 }
 
 // SheetRevisions are the rows as revisions the facilitator entered from
 // the given channel.
-func SheetRevisions(rows []SheetRow, channel workshop.Channel) []workshop.Revision {
+func sheetRevisions(rows []sheetRow, channel workshop.Channel) []workshop.Revision {
 	out := make([]workshop.Revision, len(rows))
 	for i, r := range rows {
 		out[i] = workshop.Revision{QuestionID: r.Question.ID, ExpertID: r.Expert.ID, Reason: r.Reason, Answer: r.Answer,

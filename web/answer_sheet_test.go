@@ -136,7 +136,7 @@ func TestQuantileColumnNames(t *testing.T) {
 		p    float64
 		want string
 	}{{0.05, "q05"}, {0.5, "q50"}, {0.95, "q95"}, {0.25, "q25"}, {0.975, "q975"}, {0.025, "q025"}, {1.0 / 3, "q33"}, {2.0 / 3, "q67"}, {0.1, "q10"}} {
-		if got := QuantileColumn(c.p); got != c.want {
+		if got := quantileColumn(c.p); got != c.want {
 			t.Errorf("QuantileColumn(%v) = %q, want %q", c.p, got, c.want)
 		}
 	}
@@ -152,15 +152,15 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		name, sheet, field string
 		rule               elicit.Rule
 	}{
-		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", RuleSheetExpert},
-		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetQuest},
-		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", RuleSheetColumn},
-		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", RuleSheetMissing},
+		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", ruleSheetExpert},
+		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
+		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", ruleSheetColumn},
+		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", ruleSheetMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
 		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", input.RuleNumberSyntax},
-		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", RuleSheetRepeat},
-		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, RuleSheetHeader},
-		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", RuleSheetQuest},
+		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
+		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
+		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", ruleSheetQuest},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			if c.name == "a revealed calibration question" {
@@ -190,7 +190,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		t.Fatal(err)
 	}
 	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {head + good}})
-	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 2, column question") || !strings.Contains(body, html.EscapeString(string(RuleSheetRound))) {
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 2, column question") || !strings.Contains(body, html.EscapeString(string(ruleSheetRound))) {
 		t.Errorf("closed round: %d", r.StatusCode)
 	}
 }

@@ -21,7 +21,7 @@ import (
 const TokenBytes = 32
 
 // SessionLifetime is how long a facilitator stays signed in.
-const SessionLifetime = 12 * time.Hour
+const sessionLifetime = 12 * time.Hour
 
 const sessionCookie = "parley_session"
 
@@ -146,7 +146,7 @@ func (s *Server) startSession(w http.ResponseWriter, r *http.Request, secretHash
 		return false, err
 	}
 	now := s.now()
-	expires := now.Add(SessionLifetime)
+	expires := now.Add(sessionLifetime)
 	ok, err := s.store.UseFacilitatorHash(r.Context(), secretHash, hash, expires, now)
 	if !ok || err != nil {
 		return false, err
@@ -156,7 +156,7 @@ func (s *Server) startSession(w http.ResponseWriter, r *http.Request, secretHash
 		Value:    token,
 		Path:     "/",
 		Expires:  expires,
-		MaxAge:   int(SessionLifetime / time.Second),
+		MaxAge:   int(sessionLifetime / time.Second),
 		HttpOnly: true,
 		Secure:   s.opt.SecureCookies || r.TLS != nil,
 		SameSite: http.SameSiteStrictMode,
@@ -201,7 +201,7 @@ func (s *Server) requireFacilitator(next http.Handler) http.Handler {
 			http.Redirect(w, r, "/signin", http.StatusSeeOther)
 			return
 		}
-		s.renderPage(w, r, http.StatusUnauthorized, PageMeta{Title: "Sign in first"},
+		s.renderPage(w, r, http.StatusUnauthorized, pageMeta{Title: "Sign in first"},
 			messagePage("Sign in first", "This action needs the facilitator to be signed in. Nothing was saved."))
 	})
 }
@@ -244,7 +244,7 @@ func expertPath(token string) string { return "/e/" + token + "/" }
 // linkGone answers a private link that leads nowhere: mistyped, replaced
 // by a new one, or ended.
 func (s *Server) linkGone(w http.ResponseWriter, r *http.Request) {
-	s.renderPage(w, r, http.StatusNotFound, PageMeta{Title: "This link does not work"},
+	s.renderPage(w, r, http.StatusNotFound, pageMeta{Title: "This link does not work"},
 		messagePage("This link does not work", "This private link does not open anything: it may have been mistyped, "+
 			"replaced by a new one, or ended. Please ask the facilitator for your current link."))
 }

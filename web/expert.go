@@ -385,7 +385,7 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		}
 		v.Questions = append(v.Questions, it)
 	}
-	s.renderPage(w, r, http.StatusOK, PageMeta{Title: ws.Title, Invented: ws.Invented, Caution: true}, expertHome(v))
+	s.renderPage(w, r, http.StatusOK, pageMeta{Title: ws.Title, Invented: ws.Invented, Caution: true}, expertHome(v))
 }
 
 // expertScope is what a question's handlers work on: the expert, their
@@ -578,7 +578,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status int, sc expertScope, v expertQuestionView) {
-	m := PageMeta{
+	m := pageMeta{
 		Title:    "Question " + strconv.Itoa(sc.question.Position) + " · " + sc.workshop.Title,
 		Invented: sc.workshop.Invented, Caution: true, CautionCompact: true,
 		Scripts: []string{"/static/preview.js", "/static/chips.js"},

@@ -134,7 +134,7 @@ func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status
 		s.fail(w, r, err)
 		return
 	}
-	s.renderPage(w, r, status, PageMeta{Title: "Workshops", Facilitator: true, Section: "workshops"},
+	s.renderPage(w, r, status, pageMeta{Title: "Workshops", Facilitator: true, Section: "workshops"},
 		workshopListPage(workshopListView{Workshops: ws, Deleted: deleted, Form: f}))
 }
 

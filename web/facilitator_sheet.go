@@ -18,7 +18,7 @@ import (
 
 // MaxSheetBytes is the largest answer sheet the upload takes: a sheet at
 // MaxSheetRows of ordinary rows fits well within it.
-const MaxSheetBytes = 1 << 20
+const maxSheetBytes = 1 << 20
 
 // sheetFor is how long an uploaded sheet waits for its confirmation.
 const sheetFor = 30 * time.Minute
@@ -34,7 +34,7 @@ type keptSheet struct {
 type sheetView struct {
 	Workshop workshop.Workshop
 	Form     *Form
-	Rows     []SheetRow
+	Rows     []sheetRow
 	Key      string
 	Channel  workshop.Channel
 }
@@ -59,7 +59,7 @@ func (s *Server) renderSheet(w http.ResponseWriter, r *http.Request, status int,
 // pasted into the form.
 func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, bool) {
 	if strings.HasPrefix(r.Header.Get("Content-Type"), "multipart/form-data") {
-		if err := r.ParseMultipartForm(MaxSheetBytes); err != nil {
+		if err := r.ParseMultipartForm(maxSheetBytes); err != nil {
 			var mbe *http.MaxBytesError
 			if errors.As(err, &mbe) {
 				tooLarge(w)
@@ -77,10 +77,10 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 		if files := r.MultipartForm.File["file"]; len(files) > 0 {
 			fh, err := files[0].Open()
 			if err == nil {
-				b, rerr := io.ReadAll(io.LimitReader(fh, MaxSheetBytes+1))
+				b, rerr := io.ReadAll(io.LimitReader(fh, maxSheetBytes+1))
 				fh.Close()
 				err = rerr
-				if len(b) > MaxSheetBytes {
+				if len(b) > maxSheetBytes {
 					tooLarge(w)
 					return nil, "", false
 				}
@@ -137,7 +137,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
 // when the round is closed.
-func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]SheetRow, error) {
+func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]sheetRow, error) {
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
 		return nil, err
@@ -148,7 +148,7 @@ func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) 
 	}
 	rows, err := ReadAnswerSheet(strings.NewReader(text), qs, es)
 	if err == nil && !ws.Open {
-		err = sheetErr(rows[0].Line, "question", RuleSheetRound, "round %d is closed", ws.Round)
+		err = sheetErr(rows[0].Line, "question", ruleSheetRound, "round %d is closed", ws.Round)
 	}
 	return rows, err
 }

@@ -7,7 +7,7 @@ import (
 
 // signInMeta is every sign-in page's shell. The script is on the refused
 // page too, so an address pasted into that tab still signs in.
-var signInMeta = PageMeta{Title: "Sign in", Scripts: []string{"/static/signin.js"}}
+var signInMeta = pageMeta{Title: "Sign in", Scripts: []string{"/static/signin.js"}}
 
 func (s *Server) signInForm(w http.ResponseWriter, r *http.Request) {
 	s.renderPage(w, r, http.StatusOK, signInMeta, signInPage(signInView{}))

@@ -74,7 +74,7 @@ func TestExpiredSessionsPurged(t *testing.T) {
 	if n, _ := h.db.Sessions(ctx); n != 1 {
 		t.Fatalf("%d sessions after one sign-in", n)
 	}
-	later := t0.Add(SessionLifetime + time.Minute)
+	later := t0.Add(sessionLifetime + time.Minute)
 	h.srv.now = func() time.Time { return later }
 	secret, err := IssueFacilitatorSecret(ctx, h.db)
 	if err != nil {
@@ -87,7 +87,7 @@ func TestExpiredSessionsPurged(t *testing.T) {
 		t.Errorf("%d sessions stored after the first expired and a second began, want 1", n)
 	}
 	// The store's own purge, as `parley serve` runs it at start.
-	if n, err := h.db.PurgeSessions(ctx, later.Add(SessionLifetime)); n != 1 || err != nil {
+	if n, err := h.db.PurgeSessions(ctx, later.Add(sessionLifetime)); n != 1 || err != nil {
 		t.Errorf("PurgeSessions = %d, %v; want 1 expired session", n, err)
 	}
 }

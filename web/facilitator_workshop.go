@@ -42,8 +42,8 @@ type issuedLink struct {
 }
 
 // meta is the page shell for a facilitator page of workshop ws.
-func facilitatorMeta(ws workshop.Workshop, title, section string) PageMeta {
-	return PageMeta{
+func facilitatorMeta(ws workshop.Workshop, title, section string) pageMeta {
+	return pageMeta{
 		Title: title, Facilitator: true, WorkshopID: ws.ID, WorkshopTitle: ws.Title,
 		Section: section, Invented: ws.Invented,
 	}

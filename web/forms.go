@@ -16,17 +16,17 @@ import (
 // everywhere.
 
 // RuleChoice is broken by a value that is not one of a field's choices.
-const RuleChoice elicit.Rule = "must be one of the offered choices"
+const ruleChoice elicit.Rule = "must be one of the offered choices"
 
 // FormErrors maps a form field's name to the message shown beside it.
 // The key "" holds a message about the form as a whole.
-type FormErrors map[string]string
+type formErrors map[string]string
 
 // Form is a submitted form: the values as typed, so the page can show
 // them again, and the error found for each field.
 type Form struct {
 	Values url.Values
-	Errors FormErrors
+	Errors formErrors
 	// unsaved is set when the form was fine but the server could not
 	// save it (notSaved): the message is the server's, not the fields'.
 	unsaved bool
@@ -37,7 +37,7 @@ func newForm(v url.Values) *Form {
 	if v == nil {
 		v = url.Values{}
 	}
-	return &Form{Values: v, Errors: FormErrors{}}
+	return &Form{Values: v, Errors: formErrors{}}
 }
 
 // Value is the field's value as typed.
@@ -186,6 +186,6 @@ func (f *Form) Choice(name, def string, choices ...string) string {
 			return v
 		}
 	}
-	f.set(name, string(RuleChoice))
+	f.set(name, string(ruleChoice))
 	return ""
 }

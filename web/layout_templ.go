@@ -11,11 +11,11 @@ import templruntime "github.com/a-h/templ/runtime"
 
 import "strconv"
 
-// PageMeta describes the page shell around a page's body.
+// pageMeta describes the page shell around a page's body.
 //
-// Use: s.renderPage(w, r, status, PageMeta{Title: "…"}, body) or
+// Use: s.renderPage(w, r, status, pageMeta{Title: "…"}, body) or
 // s.render(w, r, status, page(meta, body)).
-type PageMeta struct {
+type pageMeta struct {
 	Title string
 	// Facilitator shows the facilitator's navigation; WorkshopID (when not
 	// 0) adds the workshop's own links, and Section marks the current one
@@ -43,14 +43,14 @@ type PageMeta struct {
 
 func workshopPath(id int64) string { return "/w/" + strconv.FormatInt(id, 10) }
 
-func navClass(m PageMeta, section string) string {
+func navClass(m pageMeta, section string) string {
 	if m.Section == section {
 		return "nav-link current"
 	}
 	return "nav-link"
 }
 
-func page(m PageMeta, body templ.Component) templ.Component {
+func page(m pageMeta, body templ.Component) templ.Component {
 	return templruntime.GeneratedTemplate(func(templ_7745c5c3_Input templruntime.GeneratedComponentInput) (templ_7745c5c3_Err error) {
 		templ_7745c5c3_W, ctx := templ_7745c5c3_Input.Writer, templ_7745c5c3_Input.Context
 		if templ_7745c5c3_CtxErr := ctx.Err(); templ_7745c5c3_CtxErr != nil {

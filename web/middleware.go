@@ -51,7 +51,7 @@ func limitBody(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		limit := int64(MaxBodyBytes)
 		if sheetUpload.MatchString(r.URL.Path) {
-			limit = MaxSheetBytes + 64<<10 // the sheet and its form's parts
+			limit = maxSheetBytes + 64<<10 // the sheet and its form's parts
 		}
 		if r.ContentLength > limit {
 			tooLarge(w)

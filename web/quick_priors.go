@@ -246,7 +246,7 @@ func (s *Server) agreeQuickPrior(w http.ResponseWriter, r *http.Request) {
 		}
 	}
 	if f.OK() && len(results) != 1 {
-		f.set(fieldConstruction, string(RuleChoice))
+		f.set(fieldConstruction, string(ruleChoice))
 	}
 	// The construction is read again for the page, apart from the
 	// recording's own errors (a missing rationale must not hide it).

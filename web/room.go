@@ -89,7 +89,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	m := PageMeta{Title: "Room view · Q" + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
+	m := pageMeta{Title: "Room view · Q" + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
 		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
 	s.renderPage(w, r, http.StatusOK, m, roomPage(v))
 }

@@ -27,7 +27,7 @@ func (s *Server) routes() http.Handler {
 	r.Use(s.recoverPanics, securityHeaders, limitBody, crossOrigin)
 	r.NotFound(s.notFound)
 	r.MethodNotAllowed(func(w http.ResponseWriter, r *http.Request) {
-		s.renderPage(w, r, http.StatusMethodNotAllowed, PageMeta{Title: "Not allowed"},
+		s.renderPage(w, r, http.StatusMethodNotAllowed, pageMeta{Title: "Not allowed"},
 			messagePage("Not allowed", "This address does not accept that kind of request. Changes are only made by the forms on Parley's pages."))
 	})
 

@@ -148,13 +148,13 @@ func putBuffer(b *bytes.Buffer) {
 }
 
 // renderPage wraps body in the page shell described by m.
-func (s *Server) renderPage(w http.ResponseWriter, r *http.Request, status int, m PageMeta, body templ.Component) {
+func (s *Server) renderPage(w http.ResponseWriter, r *http.Request, status int, m pageMeta, body templ.Component) {
 	s.render(w, r, status, page(m, body))
 }
 
 // notFound answers 404 with a page that says nothing about why.
 func (s *Server) notFound(w http.ResponseWriter, r *http.Request) {
-	s.renderPage(w, r, http.StatusNotFound, PageMeta{Title: "Not found"},
+	s.renderPage(w, r, http.StatusNotFound, pageMeta{Title: "Not found"},
 		messagePage("Not found", "There is nothing at this address."))
 }
 
@@ -167,20 +167,20 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	case errors.Is(err, workshop.ErrNotFound):
 		s.notFound(w, r)
 	case errors.As(err, &ie):
-		s.renderPage(w, r, http.StatusBadRequest, PageMeta{Title: "Not accepted"},
+		s.renderPage(w, r, http.StatusBadRequest, pageMeta{Title: "Not accepted"},
 			messagePage("Not accepted", ie.Field+": "+string(ie.Rule)+detailSuffix(ie.Detail)))
 	case errors.Is(err, workshop.ErrRetired):
-		s.renderPage(w, r, http.StatusGone, PageMeta{Title: "Question withdrawn"},
+		s.renderPage(w, r, http.StatusGone, pageMeta{Title: "Question withdrawn"},
 			messagePage("Question withdrawn", "The facilitator has withdrawn this question, so it takes no answers. Your other questions are on your own page; your private link still works."))
 	case errors.Is(err, workshop.ErrRoundClosed):
-		s.renderPage(w, r, http.StatusConflict, PageMeta{Title: "Round closed"},
+		s.renderPage(w, r, http.StatusConflict, pageMeta{Title: "Round closed"},
 			messagePage("Round closed", "The round is closed, so nothing was saved."))
 	case errors.Is(err, context.Canceled) || r.Context().Err() != nil:
 		// The client went away; nothing to answer.
 		s.logFailure(r, "request", err)
 	default:
 		s.logFailure(r, "request", err)
-		s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
+		s.renderPage(w, r, http.StatusInternalServerError, pageMeta{Title: "Server error"},
 			messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 	}
 }
@@ -261,7 +261,7 @@ func (s *Server) recoverPanics(next http.Handler) http.Handler {
 				panic(v)
 			}
 			s.logFailure(r, "panic", fmt.Errorf("%v", v), "stack", string(debug.Stack()))
-			s.renderPage(w, r, http.StatusInternalServerError, PageMeta{Title: "Server error"},
+			s.renderPage(w, r, http.StatusInternalServerError, pageMeta{Title: "Server error"},
 				messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 		}()
 		next.ServeHTTP(w, r)

@@ -379,7 +379,7 @@ func TestSessionExpires(t *testing.T) {
 	if res, _ := h.get("/"); res.StatusCode != http.StatusOK {
 		t.Fatalf("fresh session: %d", res.StatusCode)
 	}
-	later := time.Now().Add(SessionLifetime + time.Minute)
+	later := time.Now().Add(sessionLifetime + time.Minute)
 	h.srv.now = func() time.Time { return later }
 	if res, _ := h.get("/"); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("expired session: %d, want a redirect to sign in", res.StatusCode)

@@ -23,7 +23,7 @@ import (
 // address makes one attempt.
 const (
 	SignInBurst        = 5
-	SignInClientEvery  = 5 * time.Second
+	signInClientEvery  = 5 * time.Second
 	SignInOverallEvery = time.Second
 )
 
@@ -61,7 +61,7 @@ func (t *signInThrottle) admit(client string, now time.Time) time.Duration {
 		if len(t.clients) >= maxThrottledClients {
 			t.prune(now)
 		}
-		cl = rate.NewLimiter(rate.Every(SignInClientEvery), SignInBurst)
+		cl = rate.NewLimiter(rate.Every(signInClientEvery), SignInBurst)
 		t.clients[client] = cl
 	}
 	rc, ro := cl.ReserveN(now, 1), t.overall.ReserveN(now, 1)

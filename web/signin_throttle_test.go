@@ -105,8 +105,8 @@ func TestSignInThrottled(t *testing.T) {
 	if res.StatusCode != http.StatusTooManyRequests {
 		t.Fatalf("attempt past the allowance: %d, want 429", res.StatusCode)
 	}
-	if ra, err := strconv.Atoi(res.Header.Get("Retry-After")); err != nil || ra < 1 || ra > int(SignInClientEvery/time.Second) {
-		t.Errorf("Retry-After %q, want 1 to %d seconds", res.Header.Get("Retry-After"), int(SignInClientEvery/time.Second))
+	if ra, err := strconv.Atoi(res.Header.Get("Retry-After")); err != nil || ra < 1 || ra > int(signInClientEvery/time.Second) {
+		t.Errorf("Retry-After %q, want 1 to %d seconds", res.Header.Get("Retry-After"), int(signInClientEvery/time.Second))
 	}
 	if !strings.Contains(body, "too many sign-in attempts just now; nothing was checked. Try again in 5 seconds.") {
 		t.Error("the 429 page does not say when to try again")
@@ -115,7 +115,7 @@ func TestSignInThrottled(t *testing.T) {
 		t.Error("a throttled attempt was compared")
 	}
 	// Once the address's allowance has come back, the right secret works.
-	advance(SignInClientEvery)
+	advance(signInClientEvery)
 	if res, _ := postSignIn(t, one, ts.URL, secret); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("after waiting: %d, want 303", res.StatusCode)
 	}
