@@ -51,19 +51,19 @@ func TestStudyInBrowser(t *testing.T) {
 		lead.fill(form, "observed_on", date)
 		return lead.load("record the data", chromedp.Click(chromedp.CSS(form+` button[type=submit]`)))
 	}
-	if st := record("3", "120", "Field returns, first quarter (invented)", "2027-03-31"); st != http.StatusOK {
+	if st := record("3", "120", "Field returns, first quarter (invented)", "2026-03-31"); st != http.StatusOK {
 		t.Fatalf("first batch: %d", st)
 	}
 	lead.sees("after the first batch", "What the data say", "Posterior mean", "highest-density interval", "Prior–data conflict check")
 	// More successes than trials is refused beside the field, nothing saved.
-	if st := record("130", "120", "Field returns, second quarter (invented)", "2027-06-30"); st != http.StatusUnprocessableEntity {
+	if st := record("130", "120", "Field returns, second quarter (invented)", "2026-06-30"); st != http.StatusUnprocessableEntity {
 		t.Errorf("130 in 120: status %d, want 422", st)
 	}
 	if !lead.visible(`#err-successes`) {
 		t.Error("the refused successes carry no message beside the field")
 	}
 	lead.sees("refused batch", "Nothing was saved")
-	if st := record("5", "80", "Field returns, second quarter (invented)", "2027-06-30"); st != http.StatusOK {
+	if st := record("5", "80", "Field returns, second quarter (invented)", "2026-06-30"); st != http.StatusOK {
 		t.Fatalf("second batch: %d", st)
 	}
 	data, _ := site.DB.StudyData(ctx, ws.ID)

@@ -21,6 +21,9 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		return err
 	}
 	at := now()
+	if err := d.CheckObservedBy(at); err != nil {
+		return err
+	}
 	return db.write(ctx, func(tx *sql.Tx) error {
 		var workshopID int64
 		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM questions WHERE id = ?`, d.QuestionID).Scan(&workshopID)

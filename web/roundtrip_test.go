@@ -155,7 +155,7 @@ func TestEveryTextFieldRoundTripsAtItsLimit(t *testing.T) {
 	}, ok)
 	fac.mustPost("agree", qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {long(56)}}, ok)
 	fac.mustPost("record study data", qp+"/study/data", url.Values{
-		"successes": {"2"}, "trials": {"30"}, "source": {short(61)}, "observed_on": {"2027-01-31"},
+		"successes": {"2"}, "trials": {"30"}, "source": {short(61)}, "observed_on": {"2026-01-31"},
 	}, ok)
 	fac.mustPost("agree a quick prior", wp+"/quick-priors/agree", url.Values{
 		"question": {strconv.FormatInt(rec.Questions[0].ID, 10)}, "construction": {"mean_sd"}, "c_mean": {"0.2"}, "c_sd": {"0.1"},

@@ -47,8 +47,8 @@ func TestStudyRecordsDataAndUpdates(t *testing.T) {
 		t.Error("the question's panel does not link to its study page")
 	}
 	for _, b := range []url.Values{
-		{"successes": {"3"}, "trials": {"120"}, "source": {"Site log, first quarter (invented)"}, "observed_on": {"2027-03-31"}},
-		{"successes": {"5"}, "trials": {"80"}, "source": {"Site log, second quarter (invented)"}, "observed_on": {"2027-06-30"}},
+		{"successes": {"3"}, "trials": {"120"}, "source": {"Site log, first quarter (invented)"}, "observed_on": {"2026-03-31"}},
+		{"successes": {"5"}, "trials": {"80"}, "source": {"Site log, second quarter (invented)"}, "observed_on": {"2026-06-30"}},
 	} {
 		if res, body := h.post(sp+"/data", b); res.StatusCode != http.StatusSeeOther {
 			t.Fatalf("record data: %d %s", res.StatusCode, body)
@@ -64,7 +64,7 @@ func TestStudyRecordsDataAndUpdates(t *testing.T) {
 	_, body = h.get(sp)
 	for _, want := range []string{"All 2 batches", "Beta(" + fv(post.Alpha) + ", " + fv(post.Beta) + ")", fv(post.Mean()), fv(post.SD()),
 		fv(lo) + " to " + fv(hi), fv(hlo) + " to " + fv(hhi), htmlEscape(workshop.ConflictReading(c)), `id="update-q`,
-		"Likelihood of the data, scaled", "For the recorded data", "Site log, second quarter (invented)", "2027-06-30"} {
+		"Likelihood of the data, scaled", "For the recorded data", "Site log, second quarter (invented)", "2026-06-30"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("study page lacks %q", want)
 		}
@@ -96,7 +96,7 @@ func TestStudyDataRefusesBadInput(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	sp := studyPath(ws.ID, qs[0].ID)
 	good := func(over map[string]string) url.Values {
-		v := url.Values{"successes": {"3"}, "trials": {"40"}, "source": {"kept source"}, "observed_on": {"2027-01-31"}}
+		v := url.Values{"successes": {"3"}, "trials": {"40"}, "source": {"kept source"}, "observed_on": {"2026-01-31"}}
 		for k, x := range over {
 			v.Set(k, x)
 		}
@@ -117,8 +117,9 @@ func TestStudyDataRefusesBadInput(t *testing.T) {
 		{"source with a control character", "source", good(map[string]string{"source": "a\x07b"})},
 		{"source too long", "source", good(map[string]string{"source": strings.Repeat("é", 201)})},
 		{"date empty", "observed_on", good(map[string]string{"observed_on": ""})},
-		{"date not a day", "observed_on", good(map[string]string{"observed_on": "2027-02-30"})},
+		{"date not a day", "observed_on", good(map[string]string{"observed_on": "2026-02-30"})},
 		{"date day first", "observed_on", good(map[string]string{"observed_on": "31/01/2027"})},
+		{"date in the future", "observed_on", good(map[string]string{"observed_on": "2999-01-01"})},
 	} {
 		before := h.studyCounts(ws.ID)
 		res, body := h.post(sp+"/data", c.form)
@@ -144,7 +145,7 @@ func TestStudyDataRefusesBadInput(t *testing.T) {
 		t.Error("data without an agreed prior were saved")
 	}
 	// A field sent twice is refused.
-	if res, _ := h.post(sp+"/data", url.Values{"successes": {"1", "2"}, "trials": {"40"}, "source": {"x"}, "observed_on": {"2027-01-31"}}); res.StatusCode != http.StatusBadRequest {
+	if res, _ := h.post(sp+"/data", url.Values{"successes": {"1", "2"}, "trials": {"40"}, "source": {"x"}, "observed_on": {"2026-01-31"}}); res.StatusCode != http.StatusBadRequest {
 		t.Errorf("successes twice: %d", res.StatusCode)
 	}
 }

@@ -12,6 +12,10 @@ import (
 // year-month-day.
 const RuleDate elicit.Rule = "must be a date written as 2026-03-31 (year-month-day)"
 
+// RuleDateAfterRecorded is broken by data said to be observed after the
+// day they are recorded (a day's grace for time zones).
+const RuleDateAfterRecorded elicit.Rule = "must not be later than the day the data are recorded"
+
 // DateLayout is how dates are typed and stored: ISO 8601's calendar date.
 const DateLayout = "2006-01-02"
 

@@ -401,6 +401,9 @@ func (r Record) checkStudyData(questions map[int64]workshop.Question) error {
 		if d.At.IsZero() {
 			return inputErr(p+".at", elicit.RuleRequired, "")
 		}
+		if err := d.CheckObservedBy(d.At); err != nil {
+			return under(p, err)
+		}
 	}
 	return nil
 }

@@ -39,6 +39,20 @@ func (d StudyData) Validate() error {
 	return input.CheckDate("observed_on", d.ObservedOn)
 }
 
+// CheckObservedBy refuses a batch observed after the day it is recorded
+// at (in UTC, with a day's grace, since the project lead's calendar may be
+// a day ahead of UTC): data cannot be observed in the future.
+func (d StudyData) CheckObservedBy(at time.Time) error {
+	day, err := time.Parse(input.DateLayout, d.ObservedOn)
+	if err != nil {
+		return input.CheckDate("observed_on", d.ObservedOn)
+	}
+	if latest := at.UTC().Truncate(24 * time.Hour).Add(24 * time.Hour); day.After(latest) {
+		return inputErr("observed_on", input.RuleDateAfterRecorded, "observed on %s, recorded on %s", d.ObservedOn, at.UTC().Format(input.DateLayout))
+	}
+	return nil
+}
+
 // DataTotals is the successes and trials of every batch recorded for
 // question q, summed: binomial batches of one proportion update a Beta
 // prior exactly as one batch of their totals (the likelihoods multiply).

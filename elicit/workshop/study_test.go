@@ -5,6 +5,7 @@ import (
 	"math"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -96,7 +97,7 @@ func TestConflictReading(t *testing.T) {
 }
 
 func TestStudyDataRules(t *testing.T) {
-	ok := StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}
+	ok := StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "2026-01-01"}
 	if err := ok.Validate(); err != nil {
 		t.Fatal(err)
 	}
@@ -104,15 +105,28 @@ func TestStudyDataRules(t *testing.T) {
 		d     StudyData
 		field string
 	}{
-		{StudyData{Successes: 2, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}, "successes"},
-		{StudyData{Successes: -1, Trials: 1, Source: "log", ObservedOn: "2027-01-01"}, "successes"},
-		{StudyData{Successes: 0, Trials: elicit.MaxUpdateTrials + 1, Source: "log", ObservedOn: "2027-01-01"}, "trials"},
-		{StudyData{Successes: 0, Trials: 1, Source: "", ObservedOn: "2027-01-01"}, "source"},
+		{StudyData{Successes: 2, Trials: 1, Source: "log", ObservedOn: "2026-01-01"}, "successes"},
+		{StudyData{Successes: -1, Trials: 1, Source: "log", ObservedOn: "2026-01-01"}, "successes"},
+		{StudyData{Successes: 0, Trials: elicit.MaxUpdateTrials + 1, Source: "log", ObservedOn: "2026-01-01"}, "trials"},
+		{StudyData{Successes: 0, Trials: 1, Source: "", ObservedOn: "2026-01-01"}, "source"},
 		{StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "1 Jan 2027"}, "observed_on"},
 	} {
 		var ie *elicit.InputError
 		if err := c.d.Validate(); !errors.As(err, &ie) || ie.Field != c.field {
 			t.Errorf("%+v: %v, want field %s", c.d, err, c.field)
+		}
+	}
+	// Observed at the latest the day after the day recorded (UTC), a
+	// day's grace for a calendar ahead of UTC; worked by hand.
+	at := time.Date(2026, 12, 2, 23, 30, 0, 0, time.UTC)
+	for obs, okay := range map[string]bool{"2026-12-01": true, "2026-12-02": true, "2026-12-03": true, "2026-12-04": false, "2027-01-01": false} {
+		err := StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: obs}.CheckObservedBy(at)
+		var ie *elicit.InputError
+		if okay && err != nil {
+			t.Errorf("observed %s, recorded %v: %v", obs, at, err)
+		}
+		if !okay && (!errors.As(err, &ie) || ie.Field != "observed_on") {
+			t.Errorf("observed %s, recorded %v: %v, want a refusal of observed_on", obs, at, err)
 		}
 	}
 	if err := CheckDataTotal(elicit.MaxUpdateTrials-5, StudyData{Trials: 6}); err == nil {

@@ -59,8 +59,8 @@ func PumpSeals() workshop.Snapshot {
 		// Two batches of invented field data for question 11: 9 failures
 		// in 60 seals in all.
 		Data: []workshop.StudyData{
-			{ID: 61, QuestionID: 11, Successes: 4, Trials: 25, Source: "site A log (invented)", ObservedOn: "2026-05-31", At: at(9)},
-			{ID: 62, QuestionID: 11, Successes: 5, Trials: 35, Source: "site B log (invented)", ObservedOn: "2026-06-30", At: at(10)},
+			{ID: 61, QuestionID: 11, Successes: 4, Trials: 25, Source: "site A log (invented)", ObservedOn: "2026-02-27", At: at(9)},
+			{ID: 62, QuestionID: 11, Successes: 5, Trials: 35, Source: "site B log (invented)", ObservedOn: "2026-02-28", At: at(10)},
 		},
 		Events: []workshop.Event{
 			{ID: 51, WorkshopID: 7, Kind: workshop.EventWorkshopCreated, At: T0},
