@@ -198,11 +198,7 @@ func freshWeightsForm(wt workshop.Weights, experts []workshop.Expert, alpha stri
 // inside the question's bounds, and reveals it to the experts when asked,
 // with a required reason (Store.SetTrueValue records the reveal).
 func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}

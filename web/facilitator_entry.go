@@ -67,11 +67,7 @@ func (s *Server) loadEntry(w http.ResponseWriter, r *http.Request) (entryScope, 
 // chooseEntry sends the panel's "enter for" form (a GET with ?expert=ID)
 // to that expert's entry page.
 func (s *Server) chooseEntry(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok {
 		return
 	}

@@ -198,6 +198,17 @@ func (s *Server) loadQuestion(w http.ResponseWriter, r *http.Request, ws worksho
 	return q, true
 }
 
+// loadWorkshopQuestion reads the {workshop} and its {question}, answering
+// 404 (or the store's error) and false when either is missing.
+func (s *Server) loadWorkshopQuestion(w http.ResponseWriter, r *http.Request) (workshop.Workshop, workshop.Question, bool) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return ws, workshop.Question{}, false
+	}
+	q, ok := s.loadQuestion(w, r, ws)
+	return ws, q, ok
+}
+
 func (s *Server) questionPanel(w http.ResponseWriter, r *http.Request) {
 	s.questionList(w, r, "")
 }
@@ -270,11 +281,7 @@ func (s *Server) questionHistory(w http.ResponseWriter, r *http.Request) {
 // questionList shows the question's panel page ("") or one of its lists
 // on a page of its own ("reasons", "history").
 func (s *Server) questionList(w http.ResponseWriter, r *http.Request, page string) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok {
 		return
 	}
@@ -301,11 +308,7 @@ func weightField(expertID int64) string { return fmt.Sprintf("weights[%d]", expe
 // room view, or shows it again (action=withhold or release), with a
 // required reason; the revision must be on this question.
 func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok {
 		return
 	}

@@ -19,11 +19,7 @@ import (
 // (confirm_open), since answers may still change afterwards; the record
 // notes such a prior.
 func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}

@@ -255,11 +255,7 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 // retireQuestion retires a question or brings it back (action=retire or
 // restore), with a required reason.
 func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}

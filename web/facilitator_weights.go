@@ -14,11 +14,7 @@ import (
 // negative; the store refuses all-zero custom weights. The form is posted
 // from a question's panel and returns there.
 func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}

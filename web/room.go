@@ -50,11 +50,7 @@ func roomRound(w workshop.Workshop) int {
 func roomPath(ws, q int64) string { return questionPath(ws, q) + "/room" }
 
 func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok {
 		return
 	}

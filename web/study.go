@@ -89,11 +89,7 @@ type sensitivityBlock struct {
 }
 
 func (s *Server) studyPage(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok {
 		return
 	}
@@ -351,11 +347,7 @@ func planStudy(ctx context.Context, p planView) planView {
 // prior: successes, trials, where they come from and the day observed,
 // each by the input rules; the store adds it with its event, append-only.
 func (s *Server) recordData(w http.ResponseWriter, r *http.Request) {
-	ws, ok := s.loadWorkshop(w, r)
-	if !ok {
-		return
-	}
-	q, ok := s.loadQuestion(w, r, ws)
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
 		return
 	}
