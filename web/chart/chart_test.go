@@ -410,3 +410,19 @@ func TestPercentileLabelsDoNotOverlap(t *testing.T) {
 		}
 	}
 }
+
+// TestShapeAtTheFloorDrawsNoNaN: a Beta with a shape at the floor
+// elicit.MinShape (a quick prior of 1e-6 successes in 1 trial) has its
+// upper 99.9% point underflow to the smallest double; the picture is then
+// drawn on the whole range, with ticks, and no NaN (found in review).
+func TestShapeAtTheFloorDrawsNoNaN(t *testing.T) {
+	for _, d := range []elicit.ScaledBeta{sbeta(1e-6, 0.999999, 0, 1), sbeta(0.999999, 1e-6, 0, 1), sbeta(1e-6, 1e-6, 0, 1), sbeta(1e-6, 2, 10, 50)} {
+		html := render(t, Panel(PanelView{ID: "p", Quantity: "q", Lower: d.Lower, Upper: d.Upper, Curves: []Curve{{Label: "floor", Role: RoleAgreed, Dist: d}}}))
+		checkFinite(t, html)
+		if !strings.Contains(html, "tick-label") {
+			t.Errorf("Beta(%g, %g): no tick labels", d.Alpha, d.Beta.Beta)
+		}
+		fit := render(t, Fit(FitView{ID: "f", Quantity: "q", Lower: d.Lower, Upper: d.Upper, Dist: d}))
+		checkFinite(t, fit)
+	}
+}

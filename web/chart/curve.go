@@ -262,7 +262,11 @@ func window(lower, upper float64, tails [][2]float64, extra []float64) (x0, x1 f
 			x0, x1 = math.Min(x0, x), math.Max(x1, x)
 		}
 	}
-	if !(x1 > x0) {
+	// A curve whose mass sits within a billionth of the range (a Beta
+	// with a shape at the floor, whose upper quantile underflows to the
+	// smallest double) is drawn on the whole range: a narrower window has
+	// no ticks to speak of.
+	if !(x1 > x0) || !(x1-x0 > 1e-9*(upper-lower)) {
 		return lower, upper
 	}
 	span := x1 - x0
