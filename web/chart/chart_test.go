@@ -426,3 +426,37 @@ func TestShapeAtTheFloorDrawsNoNaN(t *testing.T) {
 		checkFinite(t, fit)
 	}
 }
+
+// TestPredictiveBarsAreBounded: a million planned trials draw at most
+// maxPredictiveBars bars per layout, each the total probability of its
+// group of outcomes, and say so (found in review: a 34 MB page of
+// 376,336 bars).
+func TestPredictiveBarsAreBounded(t *testing.T) {
+	const n = 1_000_000
+	pmf, err := elicit.PriorPredictive(elicit.Beta{Alpha: 3, Beta: 57}, n)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := newPredictiveModel(PredictiveView{ID: "p", Trials: n, PMF: pmf, Success: true, SuccessFrom: 0, SuccessTo: 40000})
+	if m.Invalid != "" {
+		t.Fatal(m.Invalid)
+	}
+	for _, d := range m.Drawings {
+		if len(d.Bars) > maxPredictiveBars || len(d.Bars) < maxPredictiveBars/2 {
+			t.Errorf("%d bars, want between %d and %d", len(d.Bars), maxPredictiveBars/2, maxPredictiveBars)
+		}
+	}
+	if !strings.Contains(m.Desc, "Each bar groups") {
+		t.Errorf("the description does not say the outcomes are grouped: %q", m.Desc)
+	}
+	html := render(t, Predictive(PredictiveView{ID: "p", Trials: n, PMF: pmf}))
+	checkFinite(t, html)
+	if len(html) > 200_000 {
+		t.Errorf("the picture is %d bytes", len(html))
+	}
+	// A small study keeps one bar per outcome.
+	small, _ := elicit.PriorPredictive(elicit.Beta{Alpha: 3, Beta: 57}, 50)
+	if m := newPredictiveModel(PredictiveView{ID: "s", Trials: 50, PMF: small}); len(m.Drawings[0].Bars) > 51 || strings.Contains(m.Desc, "groups") {
+		t.Errorf("50 trials: %d bars, %q", len(m.Drawings[0].Bars), m.Desc)
+	}
+}

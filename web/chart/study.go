@@ -118,6 +118,10 @@ const predictiveTail = 5e-4
 // Predictive draws the prior predictive distribution as bars.
 func Predictive(v PredictiveView) templ.Component { return predictiveFigure(newPredictiveModel(v)) }
 
+// maxPredictiveBars is the most bars the predictive picture draws; more
+// outcomes than this are grouped.
+const maxPredictiveBars = 240
+
 func newPredictiveModel(v PredictiveView) predictiveModel {
 	m := predictiveModel{ID: v.ID}
 	if len(v.PMF) == 0 {
@@ -144,22 +148,49 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 	if hi < lo {
 		lo, hi = 0, len(v.PMF)-1
 	}
+	// Beyond maxPredictiveBars outcomes, consecutive outcomes are grouped
+	// into bins of width w and each bar is the bin's total probability:
+	// a million planned trials must not draw a million bars.
+	w := 1
+	if n := hi - lo + 1; n > maxPredictiveBars {
+		w = (n + maxPredictiveBars - 1) / maxPredictiveBars
+	}
+	type bin struct {
+		from, to int
+		p        float64
+		success  bool
+	}
+	var bins []bin
+	top = 0
+	for x := lo; x <= hi; x += w {
+		b := bin{from: x, to: min(x+w-1, hi), success: v.Success}
+		for k := b.from; k <= b.to; k++ {
+			b.p += v.PMF[k]
+			b.success = b.success && k >= v.SuccessFrom && k <= v.SuccessTo
+		}
+		top = math.Max(top, b.p)
+		bins = append(bins, b)
+	}
+	yTitle := "probability"
+	if w > 1 {
+		yTitle = fmt.Sprintf("probability per %d outcomes", w)
+	}
 	for i, lay := range plotLayouts {
 		id := m.ID
 		if i > 0 {
 			id += "-" + lay.Name
 		}
 		g := newPlot(id, lay, float64(lo)-0.5, float64(hi)+0.5, 0, top*1.08,
-			fmt.Sprintf("number of successes in %d trials", v.Trials), "probability", nil)
+			fmt.Sprintf("number of successes in %d trials", v.Trials), yTitle, nil)
 		g.wholeTicks()
 		d := predictiveDrawing{Plot: g}
 		bw := g.f.Width / float64(hi-lo+1)
-		gap := math.Min(1, bw*0.15)
-		for x := lo; x <= hi; x++ {
-			p := v.PMF[x]
-			y := g.f.py(p)
-			d.Bars = append(d.Bars, barGeom{X: coord(g.f.px(float64(x)-0.5) + gap/2), Y: coord(y), W: coord(math.Max(bw-gap, 0.3)),
-				H: coord(g.f.bottom() - y), Success: v.Success && x >= v.SuccessFrom && x <= v.SuccessTo})
+		gap := math.Min(1, bw*float64(w)*0.15)
+		for _, b := range bins {
+			y := g.f.py(b.p)
+			x0, x1 := g.f.px(float64(b.from)-0.5), g.f.px(float64(b.to)+0.5)
+			d.Bars = append(d.Bars, barGeom{X: coord(x0 + gap/2), Y: coord(y), W: coord(math.Max(x1-x0-gap, 0.3)),
+				H: coord(g.f.bottom() - y), Success: b.success})
 		}
 		m.Drawings = append(m.Drawings, d)
 	}
@@ -168,6 +199,9 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %d trials before any data, under the prior. ", v.Trials)
 	if lo > 0 || hi < len(v.PMF)-1 {
 		fmt.Fprintf(&b, "Outcomes from %d to %d are drawn; the rest together have probability under %s. ", lo, hi, FormatPercent(2*predictiveTail))
+	}
+	if w > 1 {
+		fmt.Fprintf(&b, "Each bar groups %d consecutive outcomes and shows their total probability; a bar is dark only when all its outcomes meet the criterion. ", w)
 	}
 	if v.Success {
 		if v.SuccessFrom > v.SuccessTo {
