@@ -297,3 +297,33 @@ func TestStudyPlanPage(t *testing.T) {
 		}
 	}
 }
+
+// TestPriorAgreedAfterTheDataIsFlagged: a prior agreed after data were
+// recorded is updated with them all the same, and the study page and the
+// report say that the data may be counted twice.
+func TestPriorAgreedAfterTheDataIsFlagged(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	const warn = "This prior was agreed after the data were recorded"
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"30"}, "trials": {"40"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	if _, page := h.get(sp); strings.Contains(page, warn) {
+		t.Fatal("the warning shows for a prior agreed before the data")
+	}
+	ctx := context.Background()
+	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
+	p := ps[len(ps)-1]
+	p.ID, p.Rationale = 0, "Invented: agreed again after the site log came in."
+	p.Dist.Beta = elicit.Beta{Alpha: 7, Beta: 3}
+	p.Source, p.Construction, p.Consensus = workshop.PriorFromPool, nil, nil
+	if err := h.db.AgreePrior(ctx, &p); err != nil {
+		t.Fatal(err)
+	}
+	if _, page := h.get(sp); !strings.Contains(page, warn) {
+		t.Error("the study page does not flag a prior agreed after the data")
+	}
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(report, warn) {
+		t.Error("the report does not flag a prior agreed after the data")
+	}
+}

@@ -139,6 +139,10 @@ type Update struct {
 	HDI       [2]float64      `json:"hdi"`
 	Conflict  elicit.Conflict `json:"prior_data_conflict"`
 	Reading   string          `json:"conflict_reading"`
+	// BatchesBeforePrior counts the batches recorded before the prior
+	// was agreed. If they informed the prior, the posterior counts them
+	// twice; the pages and the report say so.
+	BatchesBeforePrior int `json:"batches_before_prior,omitempty"`
 }
 
 // StudyUpdate updates the agreed prior p of a proportion question with
@@ -173,11 +177,39 @@ func StudyUpdate(q Question, p AgreedPrior, data []StudyData) (Update, error) {
 	return Update{Prior: prior, Successes: s, Trials: n, Batches: batches, Level: UpdateLevel,
 		Posterior: post, Mean: post.Mean(), SD: post.SD(),
 		Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi},
-		Conflict: c, Reading: ConflictReading(c)}, nil
+		Conflict: c, Reading: ConflictReading(c), BatchesBeforePrior: batchesBefore(data, q.ID, p.At)}, nil
+}
+
+// batchesBefore counts question q's batches recorded before at.
+func batchesBefore(data []StudyData, q int64, at time.Time) int {
+	n := 0
+	for _, d := range data {
+		if d.QuestionID == q && d.At.Before(at) {
+			n++
+		}
+	}
+	return n
+}
+
+// TwiceCounted warns, in words, that the prior was agreed after some of
+// the data it is updated with were recorded; "" when none were.
+func (u Update) TwiceCounted() string {
+	if u.BatchesBeforePrior == 0 {
+		return ""
+	}
+	which := fmt.Sprintf("%d of the %d batches of data were", u.BatchesBeforePrior, u.Batches)
+	if u.BatchesBeforePrior == u.Batches {
+		which = "all the data were"
+		if u.Batches == 1 {
+			which = "the data were"
+		}
+	}
+	return "This prior was agreed after " + which + " recorded. If those data informed the prior, the posterior counts them twice: " +
+		"update a prior agreed before the data, or judge the posterior with that in mind."
 }
 
 // ConflictReading says in plain words what a prior–data conflict check
-// found. The cut-offs 0.05 and 0.01 on the doubled smaller tail are
+// found. The cut-offs 0.01, 0.05 and 0.2 on the doubled smaller tail are
 // common practice, no source: they grade the surprise, they do not
 // decide anything.
 func ConflictReading(c elicit.Conflict) string {
@@ -190,6 +222,13 @@ func ConflictReading(c elicit.Conflict) string {
 		return fmt.Sprintf("The data conflict with the prior: %d successes in %d trials is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", c.Successes, c.Trials, side, p)
 	case p < 0.05:
 		return fmt.Sprintf("The data are surprising under the prior: %d successes in %d trials is %s than the prior expected (two-sided tail probability %.2g). Look at the prior and the data again.", c.Successes, c.Trials, side, p)
+	}
+	if c.TwoSided < 0.2 {
+		end := "lower"
+		if side == "more" {
+			end = "upper"
+		}
+		return fmt.Sprintf("No sign of conflict at the 5%% level: %d successes in %d trials is within what the prior allowed, though towards its %s end (two-sided tail probability %.2g).", c.Successes, c.Trials, end, c.TwoSided)
 	}
 	return fmt.Sprintf("No sign of conflict: %d successes in %d trials is well within what the prior expected (two-sided tail probability %.2g).", c.Successes, c.Trials, c.TwoSided)
 }

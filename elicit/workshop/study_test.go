@@ -85,11 +85,15 @@ func TestConflictReading(t *testing.T) {
 		starts   string
 		side     string
 	}{
-		{elicit.Conflict{Successes: 3, Trials: 100, Lower: 0.4, Upper: 0.7, TwoSided: 0.8}, "No sign of conflict", ""},
+		{elicit.Conflict{Successes: 3, Trials: 100, Lower: 0.4, Upper: 0.7, TwoSided: 0.8}, "No sign of conflict: ", ""},
+		{elicit.Conflict{Successes: 9, Trials: 100, Lower: 0.97, Upper: 0.03, TwoSided: 0.06}, "No sign of conflict at the 5% level", ""},
 		{elicit.Conflict{Successes: 12, Trials: 100, Lower: 0.99, Upper: 0.02, TwoSided: 0.04}, "The data are surprising", "more"},
 		{elicit.Conflict{Successes: 0, Trials: 100, Lower: 0.001, Upper: 1, TwoSided: 0.002}, "The data conflict with the prior", "fewer"},
 	} {
 		r := ConflictReading(c.conflict)
+		if c.conflict.TwoSided < 0.2 && strings.Contains(r, "well within") {
+			t.Errorf("%+v: %q overclaims", c.conflict, r)
+		}
 		if !strings.HasPrefix(r, c.starts) || (c.side != "" && !strings.Contains(r, c.side+" than the prior expected")) {
 			t.Errorf("%+v: %q", c.conflict, r)
 		}
@@ -150,6 +154,40 @@ func TestAgreedPriorCheckSource(t *testing.T) {
 	} {
 		if err := bad.CheckSource(); err == nil {
 			t.Errorf("%+v accepted", bad)
+		}
+	}
+}
+
+// TestPriorAgreedAfterTheData: batches recorded before the prior was
+// agreed are counted and named, since if they informed the prior the
+// posterior counts them twice (found in review); batches recorded after
+// it leave no warning.
+func TestPriorAgreedAfterTheData(t *testing.T) {
+	t0 := time.Date(2026, 12, 1, 9, 0, 0, 0, time.UTC)
+	q := Question{ID: 4, Lower: 0, Upper: 1}
+	data := []StudyData{
+		{QuestionID: 4, Successes: 30, Trials: 40, At: t0},
+		{QuestionID: 4, Successes: 2, Trials: 10, At: t0.Add(2 * time.Hour)},
+	}
+	for _, c := range []struct {
+		agreed time.Time
+		before int
+		says   string
+	}{
+		{t0.Add(-time.Hour), 0, ""},
+		{t0.Add(time.Hour), 1, "after 1 of the 2 batches of data were recorded"},
+		{t0.Add(3 * time.Hour), 2, "after all the data were recorded"},
+	} {
+		p := AgreedPrior{QuestionID: 4, Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 3}), At: c.agreed}
+		u, err := StudyUpdate(q, p, data)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if u.BatchesBeforePrior != c.before {
+			t.Errorf("agreed %v: %d batches before, want %d", c.agreed, u.BatchesBeforePrior, c.before)
+		}
+		if w := u.TwiceCounted(); (c.says == "") != (w == "") || !strings.Contains(w, c.says) {
+			t.Errorf("agreed %v: warning %q, want one saying %q", c.agreed, w, c.says)
 		}
 	}
 }
