@@ -114,6 +114,32 @@ func TestValidateRefusesBadStudyData(t *testing.T) {
 		{"not a date", func(r *Record) { r.StudyData[0].ObservedOn = "31.05.2026" }, "study_data[0].observed_on"},
 		{"observed after it was recorded", func(r *Record) { r.StudyData[0].ObservedOn = r.StudyData[0].At.AddDate(0, 0, 3).Format("2006-01-02") }, "study_data[0].observed_on"},
 		{"no source", func(r *Record) { r.StudyData[0].Source = "" }, "study_data[0].source"},
+		{"a prior on other bounds than its question's", func(r *Record) {
+			for i := range r.Questions {
+				if len(r.Questions[i].PriorHistory) > 0 {
+					r.Questions[i].PriorHistory[0].Dist.Upper = 2
+					return
+				}
+			}
+		}, "questions[0].prior_history[0].dist.lower"},
+		{"a question that is not a proportion", func(r *Record) {
+			for i := range r.Questions {
+				if r.Questions[i].ID == r.StudyData[0].QuestionID {
+					r.Questions[i].Upper = 10
+					r.Questions[i].CurrentFits, r.Questions[i].Pool = nil, nil
+					var keep []Revision
+					for _, rv := range r.Revisions {
+						if rv.QuestionID != r.Questions[i].ID {
+							keep = append(keep, rv)
+						}
+					}
+					r.Revisions = keep
+					for k := range r.Questions[i].PriorHistory {
+						r.Questions[i].PriorHistory[k].Dist.Upper = 10
+					}
+				}
+			}
+		}, "study_data[0].question_id"},
 		{"duplicate id", func(r *Record) { r.StudyData[1].ID = 61 }, "study_data[1].id"},
 		{"too many trials together", func(r *Record) { r.StudyData[0].Trials, r.StudyData[1].Trials = 600_000, 600_000 }, "study_data[1].trials"},
 	} {

@@ -225,6 +225,11 @@ func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w worksh
 	if err := ap.Dist.Validate(); err != nil {
 		return under(p+".dist", err)
 	}
+	// The prior is a prior for the question's quantity: on its bounds, as
+	// the forms make it.
+	if ap.Dist.Lower != q.Lower || ap.Dist.Upper != q.Upper {
+		return inputErr(p+".dist.lower", elicit.RuleSameBounds, "[%v, %v] differs from the question's [%v, %v]", ap.Dist.Lower, ap.Dist.Upper, q.Lower, q.Upper)
+	}
 	if err := ap.CheckSource(); err != nil {
 		return under(p, err)
 	}
@@ -390,6 +395,10 @@ func (r Record) checkStudyData(questions map[int64]workshop.Question) error {
 		}
 		if !withPrior[d.QuestionID] {
 			return inputErr(p+".question_id", elicit.RuleUnknown, "question %d has no agreed prior", d.QuestionID)
+		}
+		if !questions[d.QuestionID].IsProportion() {
+			// As the study page's form: binomial data update a proportion.
+			return inputErr(p+".question_id", elicit.RuleUnknown, "question %d is not a proportion on [0, 1]; binomial data update only a proportion", d.QuestionID)
 		}
 		if err := d.Validate(); err != nil {
 			return under(p, err)
