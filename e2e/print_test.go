@@ -90,8 +90,18 @@ func TestReportPrints(t *testing.T) {
 		t.Fatal("the demo has no target question")
 	}
 
-	fac.open(wsURL + "/report")
-	fac.sees("report", "Agreed priors", "1 of 1 target questions have an agreed prior")
+	// The summary of agreed priors stays inside its page at a laptop's and
+	// a projector's width (found in review: at 1280 px its last column
+	// stood outside the card).
+	for _, w := range []int64{1280, 1366} {
+		fac.viewport(w, 900, false)
+		fac.open(wsURL + "/report")
+		fac.sees("report", "Agreed priors", "1 of 1 target questions have an agreed prior")
+		fits(t, fac, "report", w)
+		if over := eval[float64](fac, "summary table overflow", `(() => { const t = document.querySelector(".table-priors"); const m = t.closest("section") || t.parentElement; return t.getBoundingClientRect().right - m.getBoundingClientRect().right; })()`); over > 0.5 {
+			t.Errorf("the agreed-priors summary runs %.0f px past its section's right edge at %d px", over, w)
+		}
+	}
 	shots := newScreenshots(t)
 	shots.take(fac, "report-1366")
 	fac.viewport(390, 844, true)
