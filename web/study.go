@@ -166,7 +166,7 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 			v.UpdatePic = updatePicture(q, u)
 		}
 	}
-	priors, skipped := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Fit: d.fit},
+	priors, skipped := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Weights: d.Weights, Fit: d.fit},
 		performanceWeights(d), v.Agreed)
 	v.Skipped = skipped
 	for i, p := range priors {

@@ -89,7 +89,12 @@ func (q Question) IsProportion() bool { return q.Lower == 0 && q.Upper == 1 }
 // prior. The panels are workshop.PanelState's; performance weights are
 // left out when perf is nil (none were ever computed), and a pool
 // without a single Beta is left out and named in skipped.
+//
+// in.Weights are the weights in force: custom weights in force add the
+// pool under them; performance weights that are not in force (perf is
+// what the calibration page would offer) are named as suggested.
 func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors []elicit.NamedPrior, skipped []string) {
+	inForce := in.Weights
 	in.Weights = Weights{WorkshopID: in.Question.WorkshopID, Scheme: WeightsEqual}
 	equal := PanelState(in)
 	for _, m := range equal.Members {
@@ -108,9 +113,17 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 		}
 	}
 	pool("Equal-weight pool", equal)
+	if inForce.Scheme == WeightsCustom {
+		in.Weights = inForce
+		pool("Pool under the custom weights in force", PanelState(in))
+	}
 	if perf != nil {
+		name := "Performance-weight pool"
+		if inForce.Scheme != WeightsPerformance {
+			name += " (suggested, not in force)"
+		}
 		in.Weights = *perf
-		pool("Performance-weight pool", PanelState(in))
+		pool(name, PanelState(in))
 	}
 	if agreed != nil {
 		priors = append(priors, elicit.NamedPrior{Name: "Agreed prior", Prior: agreed.Dist.Beta})

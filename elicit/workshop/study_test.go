@@ -18,6 +18,7 @@ func TestComparedPriors(t *testing.T) {
 	in := panelCase()
 	perf := Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 0.9, 2: 0.1}}
 	agreed := AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 12})}
+	in.Weights = perf // in force
 	got, skipped := ComparedPriors(in, &perf, &agreed)
 	in.Weights = Weights{Scheme: WeightsEqual}
 	equal := PanelState(in)
@@ -43,9 +44,27 @@ func TestComparedPriors(t *testing.T) {
 		t.Errorf("performance pool mean %v, equal %v", byPerf.Single.Dist.Mean(), equal.Single.Dist.Mean())
 	}
 	// Without performance weights or an agreed prior, those rows go.
-	got, _ = ComparedPriors(panelCase(), nil, nil)
+	plain := panelCase()
+	plain.Weights = Weights{Scheme: WeightsEqual}
+	got, _ = ComparedPriors(plain, nil, nil)
 	if len(got) != 3 || got[2].Name != "Equal-weight pool" {
 		t.Errorf("without them: %+v", got)
+	}
+	// Custom weights in force add their pool; performance weights not in
+	// force are named as suggested (found in review).
+	custom := panelCase()
+	custom.Weights = Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 0.2, 2: 0.8}}
+	got, _ = ComparedPriors(custom, &perf, nil)
+	byCustom := PanelState(custom)
+	names := map[string]elicit.Beta{}
+	for _, p := range got {
+		names[p.Name] = p.Prior
+	}
+	if b, ok := names["Pool under the custom weights in force"]; !ok || b != byCustom.Single.Dist.Beta {
+		t.Errorf("custom weights in force: %+v", got)
+	}
+	if _, ok := names["Performance-weight pool (suggested, not in force)"]; !ok {
+		t.Errorf("performance weights not in force are not named as suggested: %+v", got)
 	}
 }
 
