@@ -115,12 +115,12 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 	pool("Equal-weight pool", equal)
 	if inForce.Scheme == WeightsCustom {
 		in.Weights = inForce
-		pool("Pool under the custom weights in force", PanelState(in))
+		pool("Custom-weight pool (in force)", PanelState(in))
 	}
 	if perf != nil {
 		name := "Performance-weight pool"
 		if inForce.Scheme != WeightsPerformance {
-			name += " (suggested, not in force)"
+			name += " (suggested)"
 		}
 		in.Weights = *perf
 		pool(name, PanelState(in))

@@ -60,10 +60,10 @@ func TestComparedPriors(t *testing.T) {
 	for _, p := range got {
 		names[p.Name] = p.Prior
 	}
-	if b, ok := names["Pool under the custom weights in force"]; !ok || b != byCustom.Single.Dist.Beta {
+	if b, ok := names["Custom-weight pool (in force)"]; !ok || b != byCustom.Single.Dist.Beta {
 		t.Errorf("custom weights in force: %+v", got)
 	}
-	if _, ok := names["Performance-weight pool (suggested, not in force)"]; !ok {
+	if _, ok := names["Performance-weight pool (suggested)"]; !ok {
 		t.Errorf("performance weights not in force are not named as suggested: %+v", got)
 	}
 }

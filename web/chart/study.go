@@ -307,9 +307,10 @@ type intervalGeom struct {
 }
 
 type intervalsDrawing struct {
-	Plot   plotGeom
-	LabelX string
-	Rows   []intervalGeom
+	Plot        plotGeom
+	LabelX      string
+	LabelAnchor string // "end" beside the line, "start" above it
+	Rows        []intervalGeom
 }
 
 type intervalsModel struct {
@@ -322,8 +323,12 @@ type intervalsModel struct {
 // labelled on the left, one row under the other.
 func Intervals(v IntervalsView) templ.Component { return intervalsFigure(newIntervalsModel(v)) }
 
-// intervalRowH is the height of one row of Intervals, in SVG units.
-const intervalRowH = 30.0
+// intervalRowH is the height of one row of Intervals, in SVG units;
+// intervalRowAboveH of one with its label above the line.
+const (
+	intervalRowH      = 30.0
+	intervalRowAboveH = 44.0
+)
 
 func newIntervalsModel(v IntervalsView) intervalsModel {
 	m := intervalsModel{ID: v.ID, Title: v.Title}
@@ -341,14 +346,18 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 	x0, x1 := math.Max(0, lo-pad), math.Min(1, hi+pad)
 	for i, base := range plotLayouts {
 		lay := base
-		// Room on the left for the labels; the plot is what is left.
-		labelW, chars := 190.0, 24
-		if lay.Name == "compact" {
-			labelW, chars = 132.0, 13
+		// Wide: room on the left for the labels, the plot is what is left.
+		// Compact (a phone): each label on its own line above its interval,
+		// so names are not cut short.
+		labelW, chars, rowH := 190.0, 24, intervalRowH
+		above := lay.Name == "compact"
+		if above {
+			chars, rowH = 40, intervalRowAboveH
+		} else {
+			lay.PlotW = lay.PlotW + lay.Left - labelW - 8
+			lay.Left = labelW + 8
 		}
-		lay.PlotW = lay.PlotW + lay.Left - labelW - 8
-		lay.Left = labelW + 8
-		lay.PlotH = intervalRowH * float64(len(v.Rows))
+		lay.PlotH = rowH * float64(len(v.Rows))
 		lay.XTicks = 5
 		if lay.Name == "compact" {
 			lay.XTicks = 3
@@ -359,10 +368,17 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 		}
 		g := newPlot(id, lay, x0, x1, 0, float64(len(v.Rows)), v.XTitle, "", func(float64) string { return "" })
 		g.Axes.YTicks = nil
-		d := intervalsDrawing{Plot: g, LabelX: coord(labelW)}
+		d := intervalsDrawing{Plot: g, LabelX: coord(labelW), LabelAnchor: "end"}
+		if above {
+			d.LabelX, d.LabelAnchor = coord(8), "start"
+		}
 		for k, r := range v.Rows {
-			y := g.f.Top + intervalRowH*(float64(k)+0.5)
-			d.Rows = append(d.Rows, intervalGeom{Label: clipLabel(r.Label, chars), LabelY: coord(y + 5), Y: coord(y),
+			top := g.f.Top + rowH*float64(k)
+			y, labelY := top+rowH*0.5, top+rowH*0.5+5
+			if above {
+				y, labelY = top+rowH*0.7, top+rowH*0.35
+			}
+			d.Rows = append(d.Rows, intervalGeom{Label: clipLabel(r.Label, chars), LabelY: coord(labelY), Y: coord(y),
 				X1: coord(g.f.px(r.Lo)), X2: coord(g.f.px(r.Hi)), Mean: coord(g.f.px(r.Mean)), Emphasis: r.Emphasis})
 		}
 		m.Drawings = append(m.Drawings, d)

@@ -96,8 +96,13 @@ func TestIntervalsRows(t *testing.T) {
 		if lines[2].Attr["stroke-width"] != "4" {
 			t.Errorf("%s: the agreed prior is not drawn heavier", lay)
 		}
-		if !strings.Contains(html, "…") {
+		// Wide: the label beside the line, shortened; compact (a phone):
+		// the whole label on its own line above the interval.
+		switch {
+		case lay == "wide" && !strings.Contains(html, "…"):
 			t.Errorf("%s: the long label is not shortened", lay)
+		case lay == "compact" && !strings.Contains(html, "A very long name that must be shortened</text>"):
+			t.Errorf("%s: the long label is cut on a phone", lay)
 		}
 	}
 }
