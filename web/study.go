@@ -390,7 +390,9 @@ func (s *Server) recordData(w http.ResponseWriter, r *http.Request) {
 type predictiveRow struct{ X, P, Cum string }
 
 // predictiveRows lists the outcomes with predictive probability of at
-// least 1e-4, or the likeliest 60, with their cumulative probability.
+// least 1e-4, with their cumulative probability; beyond 60 such outcomes
+// every k-th is kept (evenly thinned, so the table spans the same range
+// with at most 60 rows; the CSV of `parley plan` has them all).
 func predictiveRows(pmf []float64) []predictiveRow {
 	var rows []predictiveRow
 	cum := 0.0
