@@ -392,7 +392,7 @@ type predictiveRow struct{ X, P, Cum string }
 // predictiveRows lists the outcomes with predictive probability of at
 // least 1e-4, with their cumulative probability; beyond 60 such outcomes
 // every k-th is kept (evenly thinned, so the table spans the same range
-// with at most 60 rows; the CSV of `parley plan` has them all).
+// with at most 60 rows; `parley plan --format json` lists them all).
 func predictiveRows(pmf []float64) []predictiveRow {
 	var rows []predictiveRow
 	cum := 0.0
