@@ -258,3 +258,31 @@ func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 func (c Conflict) String() string {
 	return fmt.Sprintf("P(Y ≤ %d) = %.4g, P(Y ≥ %d) = %.4g, two-sided %.4g", c.Successes, c.Lower, c.Successes, c.Upper, c.TwoSided)
 }
+
+// Updated is a Beta prior updated with binomial data: the posterior
+// (Posterior) and its equal-tailed (EqualTailed) and highest-density
+// (HDI) intervals at one credible level.
+type Updated struct {
+	Posterior Beta
+	Interval  [2]float64
+	HDI       [2]float64
+}
+
+// UpdateWith updates prior with successes in trials and gives the
+// posterior's intervals at level: the one computation behind `parley
+// update` and a study page's update.
+func UpdateWith(prior Beta, successes, trials int, level float64) (Updated, error) {
+	post, err := Posterior(prior, successes, trials)
+	if err != nil {
+		return Updated{}, err
+	}
+	lo, hi, err := EqualTailed(post, level)
+	if err != nil {
+		return Updated{}, err
+	}
+	hlo, hhi, err := HDI(post, level)
+	if err != nil {
+		return Updated{}, err
+	}
+	return Updated{Posterior: post, Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi}}, nil
+}

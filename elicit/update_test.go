@@ -334,3 +334,28 @@ func FuzzHDI(f *testing.F) {
 		}
 	})
 }
+
+// TestUpdateWith: the one update behind `parley update` and the study
+// page is Beta(α + s, β + n − s) (BDA3 §2.4, conjugate update) with the
+// intervals EqualTailed and HDI give it, and it refuses what Posterior
+// and the level rule refuse.
+func TestUpdateWith(t *testing.T) {
+	up, err := UpdateWith(Beta{Alpha: 3, Beta: 12}, 3, 15, 0.9)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if up.Posterior != (Beta{Alpha: 6, Beta: 24}) {
+		t.Errorf("posterior %+v, want Beta(6, 24)", up.Posterior)
+	}
+	lo, hi, _ := EqualTailed(Beta{Alpha: 6, Beta: 24}, 0.9)
+	hlo, hhi, _ := HDI(Beta{Alpha: 6, Beta: 24}, 0.9)
+	if up.Interval != [2]float64{lo, hi} || up.HDI != [2]float64{hlo, hhi} {
+		t.Errorf("intervals %v %v, want %v %v", up.Interval, up.HDI, [2]float64{lo, hi}, [2]float64{hlo, hhi})
+	}
+	if _, err := UpdateWith(Beta{Alpha: 3, Beta: 12}, 16, 15, 0.9); err == nil {
+		t.Error("more successes than trials accepted")
+	}
+	if _, err := UpdateWith(Beta{Alpha: 3, Beta: 12}, 3, 15, 1); err == nil {
+		t.Error("a level of 1 accepted")
+	}
+}

@@ -87,22 +87,16 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 		return updateOutput{}, err
 	}
 	prior := elicit.Beta{Alpha: a, Beta: b}
-	post, err := elicit.Posterior(prior, s, n)
+	up, err := elicit.UpdateWith(prior, s, n, level)
 	if err != nil {
 		return updateOutput{}, err
 	}
-	lo, hi, err := elicit.EqualTailed(post, level)
-	if err != nil {
-		return updateOutput{}, err
-	}
-	hlo, hhi, err := elicit.HDI(post, level)
-	if err != nil {
-		return updateOutput{}, err
-	}
+	post := up.Posterior
+	lo, hi, hlo, hhi := up.Interval[0], up.Interval[1], up.HDI[0], up.HDI[1]
 	out := updateOutput{
 		Prior: prior, Successes: s, Trials: n, Level: level,
 		Alpha: post.Alpha, Beta: post.Beta, Mean: post.Mean(), SD: post.SD(),
-		Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi},
+		Interval: up.Interval, HDI: up.HDI,
 		Warnings: []string{},
 	}
 	if n <= elicit.MaxPredictiveTrials {

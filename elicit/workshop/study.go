@@ -171,25 +171,18 @@ func StudyUpdate(q Question, p AgreedPrior, data []StudyData) (Update, error) {
 		return Update{}, ErrNoData
 	}
 	prior := p.Dist.Beta
-	post, err := elicit.Posterior(prior, s, n)
+	up, err := elicit.UpdateWith(prior, s, n, UpdateLevel)
 	if err != nil {
 		return Update{}, err
 	}
-	lo, hi, err := elicit.EqualTailed(post, UpdateLevel)
-	if err != nil {
-		return Update{}, err
-	}
-	hlo, hhi, err := elicit.HDI(post, UpdateLevel)
-	if err != nil {
-		return Update{}, err
-	}
+	post := up.Posterior
 	c, err := elicit.ConflictCheck(prior, s, n)
 	if err != nil {
 		return Update{}, err
 	}
 	return Update{Prior: prior, Successes: s, Trials: n, Batches: batches, Level: UpdateLevel,
 		Posterior: post, Mean: post.Mean(), SD: post.SD(),
-		Interval: [2]float64{lo, hi}, HDI: [2]float64{hlo, hhi},
+		Interval: up.Interval, HDI: up.HDI,
 		Conflict: c, Reading: ConflictReading(c), BatchesBeforePrior: batchesBefore(data, q.ID, p.At)}, nil
 }
 
