@@ -3,11 +3,10 @@ package web
 import (
 	"context"
 	"fmt"
+	"github.com/parley-elicit/parley/web/chart/charttest"
 	"net/http"
 	"strings"
 	"testing"
-
-	"github.com/parley-elicit/parley/web/chart"
 )
 
 // TestLargePanelDrawsSpread checks that a round-2 page for a panel of 201
@@ -34,7 +33,7 @@ func TestLargePanelDrawsSpread(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, page := g.get(g.qpath(0, g.q))
-	if n := len(chart.SpreadRows(wideOnly(page))); n != 200 {
+	if n := len(charttest.SpreadRows(wideOnly(page))); n != 200 {
 		t.Errorf("%d intervals in the spread, want 200 (every other expert)", n)
 	}
 	start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")

@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"fmt"
+	"github.com/parley-elicit/parley/web/chart/charttest"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -10,7 +11,6 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web/chart"
 )
 
 // largePanel seeds a signed-in harness with one quantile question and n
@@ -64,7 +64,7 @@ func TestLargePanelForTheFacilitator(t *testing.T) {
 	if res.StatusCode != http.StatusOK {
 		t.Fatalf("panel: %d", res.StatusCode)
 	}
-	if rows := chart.SpreadRows(page); len(rows) != n {
+	if rows := charttest.SpreadRows(page); len(rows) != n {
 		t.Errorf("the panel's strip has %d rows, want one per expert (%d)", len(rows), n)
 	}
 	if c := strings.Count(page, "curve-cdf curve-expert"); c != 0 {
@@ -109,7 +109,7 @@ func TestLargePanelForTheFacilitator(t *testing.T) {
 	}
 
 	_, report := h.get(workshopPath(ws.ID) + "/report")
-	if rows := chart.SpreadRows(report); len(rows) != n {
+	if rows := charttest.SpreadRows(report); len(rows) != n {
 		t.Errorf("the report's strip has %d rows, want %d", len(rows), n)
 	}
 	if c := strings.Count(report, "curve-cdf curve-expert"); c != 0 {
@@ -129,7 +129,7 @@ func TestSmallPanelOverlaysCurves(t *testing.T) {
 	if c := strings.Count(page, "curve-cdf curve-expert"); c < overlayLimit {
 		t.Errorf("%d expert curves drawn, want every one of %d", c, overlayLimit)
 	}
-	if chart.SpreadRows(page) != nil {
+	if charttest.SpreadRows(page) != nil {
 		t.Error("a small panel draws the strip")
 	}
 	if c := strings.Count(page, `name="withhold_reason"`); c != overlayLimit {

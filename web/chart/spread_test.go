@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"github.com/parley-elicit/parley/web/chart/charttest"
 	"math/rand/v2"
 	"sort"
 	"strconv"
@@ -34,7 +35,7 @@ func TestSpreadStructure(t *testing.T) {
 	v, others := spreadInputs(200)
 	html := render(t, Spread(v))
 	checkFinite(t, html)
-	rows := SpreadRows(html)
+	rows := charttest.SpreadRows(html)
 	if len(rows) != len(others) {
 		t.Fatalf("%d intervals, want one per other expert (%d)", len(rows), len(others))
 	}
@@ -109,7 +110,7 @@ func TestSpreadInvalidOthersDrawNoNaN(t *testing.T) {
 	v.Others = append(v.Others, elicit.ScaledBeta{}, sbeta(-1, 2, 0, 1))
 	html := render(t, Spread(v))
 	checkFinite(t, html)
-	if n := len(SpreadRows(html)); n != 3 {
+	if n := len(charttest.SpreadRows(html)); n != 3 {
 		t.Errorf("%d intervals, want 3 (the invalid Betas left out)", n)
 	}
 	v.Others, v.Curves = nil, nil

@@ -1,4 +1,6 @@
-package chart
+// Package charttest reads web/chart's pictures back for tests in any
+// package: what a reader of the SVG would see, not the drawing's model.
+package charttest
 
 import "regexp"
 
@@ -10,8 +12,8 @@ var (
 
 // SpreadRows reads back the first strip in html (the wide layout), one
 // entry per expert: x of the 5th percentile, x of the 95th, y, x of the
-// median and the median dot's y, as drawn. It is how tests, here and in
-// the pages that use Spread, see the rows of the picture.
+// median and the median dot's y, as drawn (chart.Spread). It is how the
+// tests of the chart and of the pages that use Spread see its rows.
 func SpreadRows(html string) [][5]string {
 	iv, md := spreadIntervalsPath.FindStringSubmatch(html), spreadMediansPath.FindStringSubmatch(html)
 	if iv == nil || md == nil {
