@@ -268,6 +268,63 @@ func (d ScaledBeta) CDFFunc() func(float64) float64 {
 	}
 }
 
+// CurveFunc returns, for drawing a Beta by cubic pieces, a function that
+// gives at x its CDF, its density f and the density's slope
+// f′(x) = f(x)·((α−1)/u − (β−1)/(1−u))/(U−L), u = (x−L)/(U−L) (the
+// derivative of log f). One power term x^α(1−x)^β/B(α, β) serves both the
+// incomplete beta function and the density, so a point costs little more
+// than the CDF alone. At and beyond the bounds it gives the CDF, PDF and
+// a slope of 0 where the density is finite there, ±Inf where it is not.
+func (d ScaledBeta) CurveFunc() func(x float64) (cdf, pdf, slope float64) {
+	w := d.width()
+	if d.Beta.Validate() != nil {
+		nan := math.NaN()
+		return func(float64) (float64, float64, float64) { return nan, nan, nan }
+	}
+	c := newIncBeta(d.Alpha, d.Beta.Beta)
+	a1, b1 := d.Alpha-1, d.Beta.Beta-1
+	return func(x float64) (float64, float64, float64) {
+		u := d.toUnit(x)
+		if !(u > 0 && u < 1) {
+			f := d.PDF(x)
+			switch {
+			case math.IsInf(f, 0):
+				return d.CDF(x), f, f
+			case u <= 0 && a1 > 0 && a1 < 1, u >= 1 && b1 > 0 && b1 < 1:
+				// f′ is infinite at a bound where 1 < α < 2 (1 < β < 2).
+				return d.CDF(x), f, math.Copysign(math.Inf(1), 0.5-u)
+			case u <= 0 && a1 == 1:
+				// f(u) = u(1−u)^(β−1)/B(2, β): f′(0) = 1/B(2, β).
+				return d.CDF(x), f, math.Exp(-c.lnB) / (w * w)
+			case u >= 1 && b1 == 1:
+				return d.CDF(x), f, -math.Exp(-c.lnB) / (w * w)
+			}
+			return d.CDF(x), f, 0
+		}
+		v := 1 - u
+		lo, _, k := c.tailsK(u, v)
+		f := k / (u * v)
+		return lo, f / w, f * (a1/u - b1/v) / (w * w)
+	}
+}
+
+// QuantileFrom is Quantile solved from a starting estimate on the
+// quantity's scale (a nearby quantile already known, for one) instead of
+// gonum's inverse. The solve is Quantile's own bracketed one, so a poor
+// or non-finite guess costs iterations, never accuracy.
+func (d ScaledBeta) QuantileFrom(p, guess float64) float64 {
+	switch {
+	case math.IsNaN(p) || d.Validate() != nil:
+		return math.NaN()
+	case p <= 0:
+		return d.Lower
+	case p >= 1:
+		return d.Upper
+	}
+	c := newIncBeta(d.Alpha, d.Beta.Beta)
+	return d.Lower + d.width()*c.quantileFrom(p, d.toUnit(guess))
+}
+
 // Survival is P(X > x), with full relative precision in the upper tail.
 func (d ScaledBeta) Survival(x float64) float64 { return d.Beta.Survival(d.toUnit(x)) }
 

@@ -177,37 +177,44 @@ func logX(x, y float64) float64 {
 // tails returns I_x(a, b) and 1 − I_x(a, b) for y = 1 − x, the smaller of
 // the two with full relative precision, for x in [0, 1].
 func (c *incBeta) tails(x, y float64) (lower, upper float64) {
+	lower, upper, _ = c.tailsK(x, y)
+	return lower, upper
+}
+
+// tailsK is tails that also returns the prefactor K = x^a y^b / B(a, b)
+// it computed, from which the density is K/(x·y) (0 at x = 0 or 1).
+func (c *incBeta) tailsK(x, y float64) (lower, upper, k float64) {
 	switch {
 	case x <= 0:
-		return 0, 1
+		return 0, 1, 0
 	case y <= 0:
-		return 1, 0
+		return 1, 0, 0
 	}
 	// The continued fraction converges fastest for x below about the
 	// mean (Numerical Recipes §6.4); it converges elsewhere too, more
 	// slowly, and is used there when the tail it gives directly is the
 	// smaller one, which 1 − (the larger) would leave with too few digits.
-	k := math.Exp(c.lnPower(x, y))
+	k = math.Exp(c.lnPower(x, y))
 	if x*(c.a+c.b+2) < c.a+1 {
 		w, _ := betaCF(c.a, c.b, x, y, cfMaxTerms)
 		t := k * w / c.a
 		if t > 1-otherTail {
 			if w, ok := betaCF(c.b, c.a, y, x, cfOtherTerms); ok {
 				u := k * w / c.b
-				return 1 - u, u
+				return 1 - u, u, k
 			}
 		}
-		return t, 1 - t
+		return t, 1 - t, k
 	}
 	w, _ := betaCF(c.b, c.a, y, x, cfMaxTerms)
 	t := k * w / c.b
 	if t > 1-otherTail {
 		if w, ok := betaCF(c.a, c.b, x, y, cfOtherTerms); ok {
 			l := k * w / c.a
-			return l, 1 - l
+			return l, 1 - l, k
 		}
 	}
-	return 1 - t, t
+	return 1 - t, t, k
 }
 
 // betaCF is the continued fraction w of I_x(a, b) = K(x)·w/a (Numerical

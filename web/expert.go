@@ -684,6 +684,10 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool) *previewView 
 		}
 		pr, x := fit.Probs[i], fit.Stated[i]
 		p.Fit.Points = append(p.Fit.Points, chart.Point{X: x, P: pr})
+		if i < len(fit.Fitted) && i < len(fit.ProbErrors) {
+			p.Fit.Fitted = append(p.Fit.Fitted, fit.Fitted[i])
+			p.Fit.FittedProbs = append(p.Fit.FittedProbs, pr+fit.ProbErrors[i])
+		}
 		line := readBack(pr, x, q.Units, percent && q.Format != workshop.FormatChips)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])

@@ -185,11 +185,8 @@ func TestFitCDFPassesThroughMedian(t *testing.T) {
 	}
 	wx, wy := px(0.5), py(0.5)
 	best := math.Inf(1)
-	for _, pt := range strings.Fields(strings.NewReplacer("M", " ", "L", " ").Replace(cdf[0].Attr["d"])) {
-		xy := strings.Split(pt, ",")
-		x, _ := strconv.ParseFloat(xy[0], 64)
-		y, _ := strconv.ParseFloat(xy[1], 64)
-		if math.Abs(x-wx) < 1.5 {
+	for _, pt := range pathSamples(t, cdf[0].Attr["d"], 64) {
+		if x, y := pt[0], pt[1]; math.Abs(x-wx) < 0.5 {
 			best = math.Min(best, math.Abs(y-wy))
 		}
 	}

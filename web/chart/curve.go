@@ -14,6 +14,10 @@ type Curve struct {
 	Label string
 	Role  Role
 	Dist  Distribution
+	// Percentiles are the curve's 5th, 50th and 95th percentiles when
+	// they are already known (a fit's); nil has them computed. They seed
+	// the search for a smooth Beta's window.
+	Percentiles *[3]float64
 }
 
 // Distribution is what a picture needs of a distribution on a question's
@@ -135,6 +139,9 @@ func (c Curve) span(lower, upper float64) curveSpan {
 }
 
 func (c Curve) computeSpan(lower, upper float64) curveSpan {
+	if b, ok := c.beta(); ok && smoothShape(b) {
+		return smoothSpan(b, lower, upper, c.Percentiles)
+	}
 	var s curveSpan
 	probs := []float64{tailLow, percentileProbs[0], percentileProbs[1], percentileProbs[2], tailHigh}
 	if qs, err := c.quantiles(probs); err == nil && len(qs) == len(probs) {

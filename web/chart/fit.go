@@ -3,6 +3,7 @@ package chart
 import (
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/a-h/templ"
@@ -21,6 +22,13 @@ type FitView struct {
 	Dist        elicit.ScaledBeta
 	Points      []Point
 	Percentiles [3]float64
+	// Fitted and FittedProbs, when they have one entry per point, are
+	// what the fit already computed (elicit.Fit's Fitted and Probs plus
+	// ProbErrors): the fitted quantile at each point's P and the fitted
+	// CDF at its X. The table then reuses them; otherwise it computes
+	// them.
+	Fitted      []float64
+	FittedProbs []float64
 }
 
 // percentileProbs are the probabilities of FitView.Percentiles.
@@ -91,7 +99,7 @@ func newFitModel(v FitView) fitModel {
 	for _, p := range v.Points {
 		xs = append(xs, p.X)
 	}
-	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist}
+	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist, Percentiles: &v.Percentiles}
 	for i, lay := range layouts {
 		d := fitDrawing{ID: m.ID, Twin: newTwin(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true)}
 		if i > 0 {
@@ -102,15 +110,21 @@ func newFitModel(v FitView) fitModel {
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
-	for _, p := range v.Points {
+	for i, p := range v.Points {
 		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
 			continue
+		}
+		var fitted, chance float64
+		if len(v.Fitted) == len(v.Points) && len(v.FittedProbs) == len(v.Points) {
+			fitted, chance = v.Fitted[i], v.FittedProbs[i]
+		} else {
+			fitted, chance = v.Dist.Quantile(p.P), v.Dist.CDF(p.X)
 		}
 		m.Rows = append(m.Rows, fitRow{
 			Chance:       FormatPercent(p.P),
 			Stated:       FormatValue(p.X),
-			Fitted:       FormatValue(v.Dist.Quantile(p.P)),
-			FittedChance: FormatPercent(v.Dist.CDF(p.X)),
+			Fitted:       FormatValue(fitted),
+			FittedChance: FormatPercent(chance),
 		})
 	}
 	for i, x := range v.Percentiles {
@@ -132,7 +146,7 @@ func fitPoints(v FitView, g twinGeom) []pointGeom {
 		}
 		out = append(out, pointGeom{
 			CX: coord(g.cumul.px(p.X)), CY: coord(g.cumul.py(p.P)),
-			X: fmt.Sprint(p.X), P: fmt.Sprint(p.P),
+			X: strconv.FormatFloat(p.X, 'g', -1, 64), P: strconv.FormatFloat(p.P, 'g', -1, 64),
 		})
 	}
 	return out
@@ -175,7 +189,7 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 		out = append(out, markGeom{
 			X: coord(px), Top: coord(g.dens.Top), Bottom: coord(g.cumul.bottom()),
 			LabelX: coord(lx), Anchor: anchor,
-			LabelY: coord(g.dens.Top - 8 - 15*float64(row)), Label: label, Value: fmt.Sprint(x),
+			LabelY: coord(g.dens.Top - 8 - 15*float64(row)), Label: label, Value: strconv.FormatFloat(x, 'g', -1, 64),
 		})
 	}
 	return out

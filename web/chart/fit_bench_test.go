@@ -25,13 +25,10 @@ func cpuNs(b *testing.B, f func()) {
 	b.ReportMetric(float64(cpu.Nanoseconds())/float64(n), "cpu-ns/op")
 }
 
-// BenchmarkFitPreviewPicture draws the fit preview's picture of a 5/50/95
-// judgement (invented inverter failure proportion), the case of
-// elicit's BenchmarkFit3. Each iteration nudges α in its last digits so
-// that the remembered spans, samples and paths miss and every curve is
-// sampled afresh, as for an expert's new draft. Target: no more CPU than
-// the fit itself.
-func BenchmarkFitPreviewPicture(b *testing.B) {
+// benchFitView is the fit preview of a 5/50/95 judgement (invented
+// inverter failure proportion), the case of elicit's BenchmarkFit3, with
+// what the fit computed.
+func benchFitView(b *testing.B) FitView {
 	j := elicit.Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.01, 0.04, 0.12}, Lower: 0, Upper: 1}
 	f, err := elicit.FitQuantiles(j)
 	if err != nil {
@@ -41,11 +38,41 @@ func BenchmarkFitPreviewPicture(b *testing.B) {
 		Dist: f.Dist, Percentiles: f.Percentiles}
 	for i, p := range f.Probs {
 		v.Points = append(v.Points, Point{X: f.Stated[i], P: p})
+		v.Fitted = append(v.Fitted, f.Fitted[i])
+		v.FittedProbs = append(v.FittedProbs, p+f.ProbErrors[i])
 	}
-	alpha := f.Dist.Alpha
+	return v
+}
+
+// BenchmarkFitPreviewPicture draws the fit preview's picture, both
+// layouts and the table, as for an expert's new draft: each iteration
+// nudges α in its last digits, so the remembered spans, knots and paths
+// miss and every curve is drawn afresh, while the axes, whose window and
+// top are snapped to round steps, stay put and are remembered, as they
+// are for a draft that changes the fit a little. Target: no more CPU than
+// the fit itself.
+func BenchmarkFitPreviewPicture(b *testing.B) {
+	v := benchFitView(b)
+	alpha := v.Dist.Alpha
 	cpuNs(b, func() {
 		alpha = math.Nextafter(alpha, math.Inf(1))
 		v.Dist.Alpha = alpha
+		if err := Fit(v).Render(b.Context(), io.Discard); err != nil {
+			b.Fatal(err)
+		}
+	})
+}
+
+// BenchmarkFitPreviewPictureNewAxes is BenchmarkFitPreviewPicture for a
+// draft that moves the axes: the remembered frames are forgotten at every
+// iteration, so they are laid out and rendered afresh too.
+func BenchmarkFitPreviewPictureNewAxes(b *testing.B) {
+	v := benchFitView(b)
+	alpha := v.Dist.Alpha
+	cpuNs(b, func() {
+		alpha = math.Nextafter(alpha, math.Inf(1))
+		v.Dist.Alpha = alpha
+		remembered.frames.Reset()
 		if err := Fit(v).Render(b.Context(), io.Discard); err != nil {
 			b.Fatal(err)
 		}

@@ -1,8 +1,8 @@
 package chart
 
 import (
-	"fmt"
 	"math"
+	"strconv"
 )
 
 // frame is one plot area: a data window mapped onto a pixel rectangle.
@@ -101,8 +101,8 @@ func (f frame) areaPath(xs, ys []float64) string {
 
 // coordShift adds d pixels to a coordinate written by coord.
 func coordShift(c string, d float64) string {
-	var v float64
-	if _, err := fmt.Sscan(c, &v); err != nil {
+	v, err := strconv.ParseFloat(c, 64)
+	if err != nil {
 		return c
 	}
 	return coord(v + d)

@@ -80,7 +80,9 @@ func fingerprint(cs []elicit.Component) [sha256.Size]byte {
 type memos struct {
 	spans   *memo.Memo[spanKey, curveSpan]
 	samples *memo.Memo[gridKey, sampled]
-	drawn   *memo.Memo[pathKey, paths] // about 9 kB each
+	drawn   *memo.Memo[pathKey, paths]      // about 9 kB each
+	knots   *memo.Memo[gridKey, []knot]     // a smooth Beta's, about 1 kB
+	frames  *memo.Memo[frameKey, twinFrame] // about 12 kB each
 	// A pool is drawn on every round-2 page of its question; a workshop
 	// has a pool per question, and a few windows each.
 	mixSpans   *memo.Memo[mixKey, curveSpan]
@@ -94,6 +96,8 @@ func newMemos() memos {
 		spans:      memo.New[spanKey, curveSpan](8192),
 		samples:    memo.New[gridKey, sampled](4096),
 		drawn:      memo.New[pathKey, paths](4096),
+		knots:      memo.New[gridKey, []knot](4096),
+		frames:     memo.New[frameKey, twinFrame](512),
 		mixSpans:   memo.New[mixKey, curveSpan](256),
 		mixSamples: memo.New[mixKey, sampled](256),
 	}
@@ -104,6 +108,8 @@ func (m memos) reset() {
 	m.spans.Reset()
 	m.samples.Reset()
 	m.drawn.Reset()
+	m.knots.Reset()
+	m.frames.Reset()
 	m.mixSpans.Reset()
 	m.mixSamples.Reset()
 }

@@ -133,7 +133,7 @@ func checkFinite(t *testing.T, html string) {
 		h, _ := strconv.ParseFloat(f[3], 64)
 		for _, p := range find(ns, "path", "") {
 			for i, tok := range pathNumber.FindAllString(p.Attr["d"], -1) {
-				if tok == "M" || tok == "L" || tok == "Z" || tok == "H" || tok == "h" {
+				if tok == "M" || tok == "L" || tok == "C" || tok == "S" || tok == "Z" || tok == "H" || tok == "h" {
 					continue
 				}
 				v, err := strconv.ParseFloat(tok, 64)

@@ -1,9 +1,12 @@
 package chart
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strings"
+
+	"github.com/a-h/templ"
 )
 
 // A twin is the layout every curve picture shares: a density plot above a
@@ -43,15 +46,16 @@ var (
 )
 
 const (
-	// gridPoints is the number of straight pieces each curve is drawn
-	// with across the plot's 540 units (2.7 units each). A lone curve's
+	// gridPoints is the number of straight pieces a curve that is not a
+	// smooth Beta (smooth.go) is drawn with across the plot's 540 units
+	// (2.7 units each): a pool, or a Beta with a shape below 2. A lone curve's
 	// window spans its 0.1–99.9% range plus margins, about 8 standard
 	// deviations for a bell-shaped Beta, so a piece is about 0.04 σ wide,
 	// and a chord strays from the curve by at most h²/8·|f″| (the error
 	// of linear interpolation), with |f″| ≤ 0.4/σ³ near a normal-like
 	// peak: under 0.03% of the peak's height, far below a pixel. A narrow
 	// curve in a panel 40 σ wide strays under 1%. Each point costs one
-	// incomplete-beta evaluation, the bulk of drawing a fit preview.
+	// incomplete-beta evaluation, the bulk of drawing such a curve.
 	gridPoints    = 200
 	densityTicksN = 4
 )
@@ -89,7 +93,22 @@ type lineGeom struct {
 }
 
 type twinGeom struct {
+	twinFrame
 	Layout      layout
+	Lines       []lineGeom
+	ClippedBy   []string // labels of curves cut at the density axis's top
+	DensityTop  float64
+	X0, X1      float64
+	percentiles [][3]float64 // each drawn line's 5th, 50th and 95th percentiles
+}
+
+// twinFrame is what a twin draws around its curves: the plot areas, their
+// ticks and titles, and the notes under them. It depends on nothing but
+// its frameKey, and is remembered with its SVG rendered once (AxesSVG,
+// NotesSVG), so a draft that leaves the axes where they were costs only
+// its curves; windows and the density axis's top are snapped to round
+// steps so that they do stay put under small changes.
+type twinFrame struct {
 	ViewBox     string
 	Height      float64
 	Density     axesGeom
@@ -101,15 +120,22 @@ type twinGeom struct {
 	XTitleX     string
 	XTitleY     string
 	NoteX       string
-	Lines       []lineGeom
 	Notes       []string   // what the axes leave out, in words
 	NoteLines   []noteLine // the notes as drawn, wrapped to the layout's width
 	NoteY       string
-	ClippedBy   []string // labels of curves cut at the density axis's top
-	DensityTop  float64
-	X0, X1      float64
 	dens, cumul frame
-	percentiles [][3]float64 // each drawn line's 5th, 50th and 95th percentiles
+	// AxesSVG and NotesSVG are twinAxesSVG and twinNotesSVG rendered,
+	// or empty when rendering failed and twinSVG renders them itself.
+	AxesSVG, NotesSVG string
+}
+
+// frameKey is everything a twinFrame depends on.
+type frameKey struct {
+	layout          string
+	quantity, units string
+	lower, upper    float64
+	x0, x1, top     float64
+	clipped         string // the labels of curves cut at the top, joined by ", "
 }
 
 // axisTitle is "quantity (units)" or just the quantity.
@@ -142,21 +168,28 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 		}
 	}
 	x0, x1 := window(lower, upper, tails, extra)
-	for i, c := range curves {
-		if _, beta := c.beta(); valid[i] && !beta {
-			x0, x1 = snapWindow(x0, x1, lower, upper)
-			break
-		}
+	x0, x1 = snapWindow(x0, x1, lower, upper)
+	if !(x0 >= lower) || !(x1 <= upper) || !(x1 > x0) {
+		x0, x1 = lower, upper
 	}
 	g := twinGeom{Layout: lay, X0: x0, X1: x1}
 	dens := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.DensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	cumul := frame{Left: lay.Left, Top: lay.Top + lay.DensityH + lay.Gap, Width: lay.PlotW, Height: lay.CDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
-	xs := dens.grid(gridPoints)
 	ys := make([]sampled, len(curves))
+	smooth := make([]bool, len(curves))
+	var xs []float64 // the grid, when a curve is sampled on it
 	for i, c := range curves {
-		if valid[i] {
-			ys[i] = c.sample(xs, x0, x1)
+		if !valid[i] {
+			continue
 		}
+		if b, ok := c.beta(); ok && smoothShape(b) {
+			smooth[i] = true
+			continue
+		}
+		if xs == nil {
+			xs = dens.grid(gridPoints)
+		}
+		ys[i] = c.sample(xs, x0, x1)
 	}
 
 	// The density axis's top: the tallest curve's own top, each sampled
@@ -178,7 +211,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	if !(top > 0) || !isFinite(top) {
 		top = 1
 	}
-	top *= 1.08
+	top = snapTop(top * 1.08)
 	dens.Y1 = top
 	g.DensityTop = top
 
@@ -189,6 +222,16 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 		st := styleFor(c.Role, expertIndex(curves, i))
 		draw := func() paths {
 			var p paths
+			if smooth[i] {
+				b, _ := c.beta()
+				ks := remembered.knots.Get(gridKey{b, x0, x1}, func() []knot { return smoothKnots(b, x0, x1, sp[i].top) })
+				p.density = dens.bezierPath(ks, true)
+				p.cumul = cumul.bezierPath(ks, false)
+				if area {
+					p.area = dens.closeArea(p.density, dens.px(x0), dens.px(x1))
+				}
+				return p
+			}
 			p.density, p.clipped = dens.linePath(xs, ys[i].pdf)
 			p.cumul, _ = cumul.linePath(xs, ys[i].cdf)
 			if area {
@@ -211,6 +254,17 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 		}
 	}
 
+	key := frameKey{layout: lay.Name, quantity: quantity, units: units, lower: lower, upper: upper,
+		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", ")}
+	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
+	return g
+}
+
+// newTwinFrame lays out and renders the frame of a twin whose plots are
+// dens and cumul.
+func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
+	var g twinFrame
+	x0, x1, top, lower, upper := k.x0, k.x1, k.top, k.lower, k.upper
 	for _, t := range ticks(x0, x1, lay.XTicks) {
 		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: t.Label, Value: t.Label})
 	}
@@ -221,7 +275,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	}
 	g.Cumul = yAxes(lay, cumul, pt, "chance below", "chart-cdf")
 	g.XLabelY = coord(cumul.bottom() + 18)
-	g.XTitle = axisTitle(quantity, units)
+	g.XTitle = axisTitle(k.quantity, k.units)
 	g.XTitleX = coord(cumul.Left + cumul.Width/2)
 	g.XTitleY = coord(cumul.bottom() + 42)
 	titleLines := wrapWords(g.XTitle, lay.TitleChars)
@@ -249,9 +303,9 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis stops at %s, short of the upper bound %s.",
 			FormatValue(x1), FormatValue(upper)))
 	}
-	if len(g.ClippedBy) > 0 {
+	if k.clipped != "" {
 		g.Notes = append(g.Notes, fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.",
-			formatSig(top, 3), strings.Join(g.ClippedBy, ", ")))
+			formatSig(top, 3), k.clipped))
 	}
 	y := cumul.bottom() + 64 + extraTitle
 	for _, n := range g.Notes {
@@ -262,7 +316,31 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	}
 	g.Height = cumul.bottom() + lay.Below + extraTitle + lay.NoteLine*float64(len(g.NoteLines))
 	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
+	g.AxesSVG, g.NotesSVG = renderString(twinAxesSVG(g)), renderString(twinNotesSVG(g))
 	return g
+}
+
+// renderString renders a component to a string, or "" if it fails.
+func renderString(c templ.Component) string {
+	var b strings.Builder
+	if err := c.Render(context.Background(), &b); err != nil {
+		return ""
+	}
+	return b.String()
+}
+
+// snapTop rounds a density axis's top up to a multiple of a round step
+// of about an eighth of it, so that drafts whose density's top moves a
+// little share their axis.
+func snapTop(top float64) float64 {
+	if !(top > 0) || !isFinite(top) {
+		return top
+	}
+	step := niceStep(top, 8)
+	if t := math.Ceil(top/step) * step; isFinite(t) && t >= top {
+		return t
+	}
+	return top
 }
 
 // wrapWords breaks s into lines of at most n characters at spaces; a word
@@ -288,13 +366,16 @@ func wrapWords(s string, n int) []string {
 }
 
 // snapWindow widens [x0, x1] outward to whole multiples of a round step
-// of about a sixteenth of its width, within [lower, upper]. It is used
-// when a pool is drawn. A pool is drawn beside each expert's own curve,
-// whose tails move the window a little for each expert, and sampling a
-// pool of many experts afresh for every window costs each component's
-// CDF at every point. Snapped, nearby windows fall together, the experts'
-// pages share a few windows, and the pool's samples for each are
-// remembered. The window grows by less than a step on each side.
+// of about a sixteenth of its width, within [lower, upper]. Every twin's
+// window is snapped. An expert's draft that changes their fit a little
+// keeps its axes, so the curve is seen to move against a frame that stays
+// put, and the frame is remembered rather than drawn again. A pool is
+// drawn beside each expert's own curve, whose tails move the window a
+// little for each expert, and sampling a pool of many experts afresh for
+// every window costs each component's CDF at every point. Snapped, nearby
+// windows fall together, the experts' pages share a few windows, and the
+// pool's samples for each are remembered. The window grows by less than a
+// step on each side.
 func snapWindow(x0, x1, lower, upper float64) (float64, float64) {
 	if !isFinite(x0) || !isFinite(x1) || !(x1 > x0) {
 		return x0, x1

@@ -1,0 +1,224 @@
+package chart
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// pathSamples evaluates an SVG path of absolute M, L, C and S commands:
+// every end point, and n points along each cubic piece (the Bézier
+// polynomial, SVG 1.1 §8.3.6; S reflects the previous second control
+// point about the current point).
+func pathSamples(t *testing.T, d string, n int) [][2]float64 {
+	t.Helper()
+	toks := pathNumber.FindAllString(d, -1)
+	var out [][2]float64
+	var cur, prevC2 [2]float64
+	havePrev := false
+	cmd := ""
+	num := func(i int) float64 {
+		v, err := strconv.ParseFloat(toks[i], 64)
+		if err != nil {
+			t.Fatalf("path %q: token %d %q is not a number", d, i, toks[i])
+		}
+		return v
+	}
+	cubic := func(p0, p1, p2, p3 [2]float64) {
+		for k := 1; k <= n; k++ {
+			s := float64(k) / float64(n)
+			u := 1 - s
+			var q [2]float64
+			for j := range 2 {
+				q[j] = u*u*u*p0[j] + 3*u*u*s*p1[j] + 3*u*s*s*p2[j] + s*s*s*p3[j]
+			}
+			out = append(out, q)
+		}
+	}
+	for i := 0; i < len(toks); {
+		if _, err := strconv.ParseFloat(toks[i], 64); err != nil {
+			cmd = toks[i]
+			i++
+			continue
+		}
+		switch cmd {
+		case "M", "L":
+			cur = [2]float64{num(i), num(i + 1)}
+			out = append(out, cur)
+			havePrev = false
+			i += 2
+		case "C":
+			p1, p2, p3 := [2]float64{num(i), num(i + 1)}, [2]float64{num(i + 2), num(i + 3)}, [2]float64{num(i + 4), num(i + 5)}
+			cubic(cur, p1, p2, p3)
+			cur, prevC2, havePrev = p3, p2, true
+			i += 6
+		case "S":
+			p1 := cur
+			if havePrev {
+				p1 = [2]float64{2*cur[0] - prevC2[0], 2*cur[1] - prevC2[1]}
+			}
+			p2, p3 := [2]float64{num(i), num(i + 1)}, [2]float64{num(i + 2), num(i + 3)}
+			cubic(cur, p1, p2, p3)
+			cur, prevC2, havePrev = p3, p2, true
+			i += 4
+		default:
+			t.Fatalf("path %q: command %q not understood", d, cmd)
+		}
+	}
+	return out
+}
+
+var smoothCases = []elicit.ScaledBeta{
+	sbeta(2.022, 40.59, 0, 1), // the benchmark's fit
+	sbeta(2, 2, 0, 1),
+	sbeta(2, 2000, 0, 1),
+	sbeta(4.2, 17.9, 10, 500),
+	sbeta(55, 3.5, -1, 1),
+	sbeta(300, 2, 0, 1),
+	sbeta(2000, 50000, 0, 1), // zoomed far in
+	sbeta(2.5, 2.5, 0, 100),
+	sbeta(1e5, 1e5, 0, 1),
+}
+
+// TestSmoothCurvesFollowTheBeta checks the cubic pieces against the
+// curve itself: at 32 points along every piece of both layouts' density
+// and CDF paths, the drawn point lies within 0.25 px (vertically) of the
+// Beta's own density and CDF at the drawn x, which elicit computes (and
+// beta_test.go checks against R's dbeta and pbeta). Control points are
+// rounded to a hundredth of a pixel, which the margin covers.
+func TestSmoothCurvesFollowTheBeta(t *testing.T) {
+	for _, d := range smoothCases {
+		if !smoothShape(d) {
+			t.Fatalf("%v is not drawn smooth", d)
+		}
+		for _, lay := range layouts {
+			remembered.reset()
+			g := newTwin(lay, "q", "", d.Lower, d.Upper, []Curve{{Label: "x", Dist: d}}, nil, true)
+			l := g.Lines[0]
+			if !strings.Contains(l.Density, "C") || !strings.Contains(l.Cumul, "C") || strings.Contains(l.Cumul, "L") {
+				t.Fatalf("%v %s: not drawn by cubic pieces: %.80s", d, lay.Name, l.Cumul)
+			}
+			dataX := func(px float64) float64 { return g.dens.X0 + (px-g.dens.Left)/g.dens.Width*(g.dens.X1-g.dens.X0) }
+			worst := 0.0
+			for _, c := range []struct {
+				path string
+				f    frame
+				val  func(float64) float64
+			}{{l.Density, g.dens, d.PDF}, {l.Cumul, g.cumul, d.CDF}} {
+				pts := pathSamples(t, c.path, 32)
+				for k, p := range pts {
+					if k > 0 && p[0] < pts[k-1][0]-1e-9 {
+						t.Fatalf("%v %s: the path turns back at x = %v px", d, lay.Name, p[0])
+					}
+					want := c.f.py(c.val(dataX(p[0])))
+					worst = math.Max(worst, math.Abs(p[1]-want))
+				}
+			}
+			if worst > 0.25 {
+				t.Errorf("%v %s: a drawn point strays %.3f px from the curve", d, lay.Name, worst)
+			}
+			t.Logf("%v %s: at most %.3f px off", d.Beta, lay.Name, worst)
+		}
+	}
+}
+
+// TestSmoothTopIsTheMode checks the density axis's top for smooth shapes
+// against the rule the polyline used: the largest of 201 samples over the
+// curve's own window, never capped as a spike (densityCap). The mode's
+// density is the true maximum, so it is at least the largest sample and
+// within 0.5% of it.
+func TestSmoothTopIsTheMode(t *testing.T) {
+	for _, d := range append(smoothCases, sbeta(2, 1e6, 0, 1), sbeta(1e6, 2, 0, 1), sbeta(2, 3, 0, 1)) {
+		s := smoothSpan(d, d.Lower, d.Upper, nil)
+		own := frame{X0: s.ownX0, X1: s.ownX1}
+		f := d.Density()
+		var ys []float64
+		for _, x := range own.grid(gridPoints) {
+			ys = append(ys, f(x))
+		}
+		top, capped := densityCap(ys)
+		if capped {
+			t.Errorf("%v: the sampled rule would cap its density", d)
+		}
+		if s.top < top*(1-1e-12) || s.top > top*1.005 {
+			t.Errorf("%v: top %v, largest sample %v", d, s.top, top)
+		}
+	}
+}
+
+// TestSmoothSpanMatchesQuantiles checks that the starting points change
+// nothing: the smooth span's tails and percentiles are elicit's
+// quantiles (checked against R's qbeta in beta_test.go).
+func TestSmoothSpanMatchesQuantiles(t *testing.T) {
+	for _, d := range smoothCases {
+		s := smoothSpan(d, d.Lower, d.Upper, nil)
+		for i, pair := range [][2]float64{{s.lo, tailLow}, {s.hi, tailHigh}, {s.percentile[0], 0.05}, {s.percentile[1], 0.5}, {s.percentile[2], 0.95}} {
+			if want := d.Quantile(pair[1]); math.Abs(pair[0]-want) > 1e-12*math.Max(1, math.Abs(want)) {
+				t.Errorf("%v: value %d (p = %v) %v, Quantile %v", d, i, pair[1], pair[0], want)
+			}
+		}
+	}
+}
+
+// TestFrameIsRememberedAndSame checks the remembered frame: two drafts
+// whose windows snap together share it, the picture's bytes are the same
+// whether the frame comes rendered from memory or is drawn afresh, and
+// a draft whose window moves gets a frame of its own.
+func TestFrameIsRememberedAndSame(t *testing.T) {
+	remembered.reset()
+	d := sbeta(2.022, 40.59, 0, 1)
+	v := fitViewOf(d, Point{0.01, 0.05}, Point{0.04, 0.5}, Point{0.12, 0.95})
+	first := render(t, Fit(v))
+	frames := remembered.frames.Len()
+	if frames != len(layouts) {
+		t.Fatalf("%d frames remembered, want one per layout", frames)
+	}
+	// A revised draft: α 1% larger moves the curve, not the axes.
+	v.Dist.Alpha = d.Alpha * 1.01
+	v.Percentiles = fitViewOf(v.Dist).Percentiles
+	second := render(t, Fit(v))
+	if remembered.frames.Len() != frames {
+		t.Error("a draft whose window snaps to the same axes drew a new frame")
+	}
+	if first == second {
+		t.Error("the second draft drew the same picture")
+	}
+	// Drawn afresh, without the rendered frame.
+	m := newFitModel(v)
+	for i := range m.Drawings {
+		m.Drawings[i].Twin.AxesSVG, m.Drawings[i].Twin.NotesSVG = "", ""
+	}
+	if live := render(t, fitFigure(m)); live != second {
+		t.Error("the frame rendered from memory differs from the frame drawn afresh")
+	}
+	v.Dist = sbeta(6, 30, 0, 1)
+	_ = render(t, Fit(v))
+	if remembered.frames.Len() != 2*frames {
+		t.Errorf("%d frames after a draft with another window, want %d", remembered.frames.Len(), 2*frames)
+	}
+}
+
+// TestWindowAndTopAreSnapped checks that a twin's window ends and its
+// density axis's top are whole multiples of their round steps, or the
+// question's bounds.
+func TestWindowAndTopAreSnapped(t *testing.T) {
+	for _, d := range smoothCases {
+		g := newTwin(wideLayout, "q", "", d.Lower, d.Upper, []Curve{{Label: "x", Dist: d}}, nil, false)
+		step := niceStep(g.X1-g.X0, 16)
+		for _, x := range []float64{g.X0, g.X1} {
+			if x != d.Lower && x != d.Upper && math.Abs(x/step-math.Round(x/step)) > 1e-6 {
+				t.Errorf("%v: window end %v is not a multiple of about %v", d, x, step)
+			}
+		}
+		ts := niceStep(g.DensityTop, 8)
+		if r := g.DensityTop / ts; math.Abs(r-math.Round(r)) > 1e-9 {
+			t.Errorf("%v: density top %v is not a multiple of %v", d, g.DensityTop, ts)
+		}
+		if g.DensityTop < 1.08*smoothTop(d) {
+			t.Errorf("%v: density top %v below 1.08 times the mode's density %v", d, g.DensityTop, smoothTop(d))
+		}
+	}
+}
