@@ -118,6 +118,28 @@ func TestLargePanelForTheFacilitator(t *testing.T) {
 	if !strings.Contains(report, "Weights: equal, 2.5% each for the 40 experts pooled.") {
 		t.Error("the report does not state equal weights in one line")
 	}
+	// The panel is summed up at the top; the roster closes the record.
+	roster, log, first := strings.Index(report, `id="panel-roster"`), strings.Index(report, "<h2>Decision log</h2>"), strings.Index(report, `class="report-question"`)
+	if !strings.Contains(report, "40 experts. Their names, affiliations and expertise are in the") {
+		t.Error("the report's panel section does not sum the panel up")
+	}
+	if roster < 0 || log < 0 || roster < log || strings.Count(report, `class="table table-compact table-roster"`) != 1 {
+		t.Errorf("the roster is not once, after the decision log (roster at %d, log at %d)", roster, log)
+	}
+	if i := strings.Index(report, `table-roster`); i < first {
+		t.Error("the roster comes before the questions")
+	}
+}
+
+// TestReportRosterStaysAtTheTopOfASmallPanel: up to overlayLimit experts
+// the roster is the panel section itself.
+func TestReportRosterStaysAtTheTopOfASmallPanel(t *testing.T) {
+	h, ws, _, _ := seedLargePanel(t, overlayLimit)
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	roster, first := strings.Index(report, `table-roster`), strings.Index(report, `class="report-question"`)
+	if roster < 0 || roster > first || strings.Contains(report, `id="panel-roster"`) {
+		t.Errorf("a small panel's roster is not in the panel section (at %d, first question at %d)", roster, first)
+	}
 }
 
 // TestSmallPanelOverlaysCurves: up to overlayLimit experts every curve is
