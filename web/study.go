@@ -12,6 +12,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/internal/memo"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -31,6 +32,19 @@ const (
 	// sampleSizeTime bounds the sample-size search of one page.
 	sampleSizeTime = 20 * time.Second
 )
+
+// sizeKey is a sample-size search: the prior and the goal.
+type sizeKey struct {
+	prior elicit.Beta
+	goal  elicit.SampleSizeGoal
+}
+
+// sampleSizes remembers the sample sizes found, which depend on nothing
+// but their key. A search can cost seconds; the study page is opened
+// again after every batch of data and every change to the plan, mostly
+// with the same goal, and then answers at once. A search that fails or
+// runs out of time is not remembered. (A few hundred bytes each.)
+var sampleSizes = memo.New[sizeKey, elicit.SampleSizeResult](256)
 
 // studyPath is the question's study page.
 func studyPath(ws, q int64) string { return questionPath(ws, q) + "/study" }
@@ -322,9 +336,13 @@ func planStudy(ctx context.Context, p planView) planView {
 		}
 	}
 	if p.Size != nil {
-		sctx, cancel := context.WithTimeout(ctx, sampleSizeTime)
-		res, err := elicit.SampleSize(sctx, prior, *p.Size)
-		cancel()
+		res, err := sampleSizes.GetErr(sizeKey{prior, *p.Size}, func() (elicit.SampleSizeResult, error) {
+			// Other views may wait on this search: it runs to its own
+			// deadline even if this view's client goes away.
+			sctx, cancel := context.WithTimeout(context.WithoutCancel(ctx), sampleSizeTime)
+			defer cancel()
+			return elicit.SampleSize(sctx, prior, *p.Size)
+		})
 		switch {
 		case errors.Is(err, context.DeadlineExceeded):
 			f.set("length", fmt.Sprintf("the search for the sample size took longer than %s; ask for a wider interval, or use parley plan on the command line", sampleSizeTime))

@@ -327,3 +327,30 @@ func TestPriorAgreedAfterTheDataIsFlagged(t *testing.T) {
 		t.Error("the report does not flag a prior agreed after the data")
 	}
 }
+
+// A sample size found once is remembered: the same goal under the same
+// prior is answered again from memory, and another goal is searched for.
+// (That a failed search is not remembered is memo.GetErr's contract,
+// tested in internal/memo.)
+func TestStudySampleSizeIsRemembered(t *testing.T) {
+	prior := elicit.Beta{Alpha: 3, Beta: 57} // invented; not used by other tests
+	plan := func(length string) planView {
+		form := newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "length": {length}, "level": {"0.9"}, "criterion": {"alc"}, "interval": {"equal"}})
+		return planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+	}
+	before := sampleSizes.Len()
+	first := plan("0.07")
+	if first.SizeRes == nil {
+		t.Fatalf("no sample size: %v", first.Form.Errors)
+	}
+	if got := sampleSizes.Len(); got != before+1 {
+		t.Fatalf("%d sample sizes remembered after a search, want %d", got, before+1)
+	}
+	again := plan("0.07")
+	if again.SizeRes == nil || *again.SizeRes != *first.SizeRes || sampleSizes.Len() != before+1 {
+		t.Fatalf("the same goal again: %+v, %d remembered; want the remembered %+v", again.SizeRes, sampleSizes.Len(), first.SizeRes)
+	}
+	if other := plan("0.06"); other.SizeRes == nil || other.SizeRes.N <= first.SizeRes.N || sampleSizes.Len() != before+2 {
+		t.Errorf("a narrower goal: %+v, %d remembered", other.SizeRes, sampleSizes.Len())
+	}
+}
