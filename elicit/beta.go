@@ -269,42 +269,88 @@ func (d ScaledBeta) CDFFunc() func(float64) float64 {
 }
 
 // CurveFunc returns, for drawing a Beta by cubic pieces, a function that
-// gives at x its CDF, its density f and the density's slope
-// f′(x) = f(x)·((α−1)/u − (β−1)/(1−u))/(U−L), u = (x−L)/(U−L) (the
-// derivative of log f). One power term x^α(1−x)^β/B(α, β) serves both the
-// incomplete beta function and the density, so a point costs little more
-// than the CDF alone. At and beyond the bounds it gives the CDF, PDF and
-// a slope of 0 where the density is finite there, ±Inf where it is not.
-func (d ScaledBeta) CurveFunc() func(x float64) (cdf, pdf, slope float64) {
-	w := d.width()
-	if d.Beta.Validate() != nil {
+// gives at u its CDF, its density f and the density's slope
+// f′(u) = f(u)·((α−1)/u − (β−1)/(1−u)) (the derivative of log f). One
+// power term u^α(1−u)^β/B(α, β) serves both the incomplete beta function
+// and the density, so a point costs little more than the CDF alone.
+//
+// At u = 0 and u = 1 it gives the limits: the density and its slope are 0
+// where the shape at that bound exceeds 2; at a shape of exactly 2 the
+// slope is ±1/B(α, β); where the shape is between 1 and 2 the slope is
+// infinite, and below 1 the density is. Outside [0, 1] the density and its
+// slope are 0.
+func (d Beta) CurveFunc() func(u float64) (cdf, pdf, slope float64) {
+	if d.Validate() != nil {
 		nan := math.NaN()
 		return func(float64) (float64, float64, float64) { return nan, nan, nan }
 	}
-	c := newIncBeta(d.Alpha, d.Beta.Beta)
-	a1, b1 := d.Alpha-1, d.Beta.Beta-1
-	return func(x float64) (float64, float64, float64) {
-		u := d.toUnit(x)
-		if !(u > 0 && u < 1) {
-			f := d.PDF(x)
-			switch {
-			case math.IsInf(f, 0):
-				return d.CDF(x), f, f
-			case u <= 0 && a1 > 0 && a1 < 1, u >= 1 && b1 > 0 && b1 < 1:
-				// f′ is infinite at a bound where 1 < α < 2 (1 < β < 2).
-				return d.CDF(x), f, math.Copysign(math.Inf(1), 0.5-u)
-			case u <= 0 && a1 == 1:
-				// f(u) = u(1−u)^(β−1)/B(2, β): f′(0) = 1/B(2, β).
-				return d.CDF(x), f, math.Exp(-c.lnB) / (w * w)
-			case u >= 1 && b1 == 1:
-				return d.CDF(x), f, -math.Exp(-c.lnB) / (w * w)
+	c := newIncBeta(d.Alpha, d.Beta)
+	a1, b1 := d.Alpha-1, d.Beta-1
+	edge := func(e1, sign float64) (pdf, slope float64) {
+		// The density near the bound is about t^e1/B, t the distance to it.
+		switch {
+		case e1 < 0:
+			return math.Inf(1), -sign * math.Inf(1)
+		case e1 == 0:
+			// Flat at the bound: f = 1/B there; its slope is that of
+			// (1−t)^(other−1)/B, finite.
+			return math.Exp(-c.lnB), 0
+		case e1 < 1:
+			return 0, sign * math.Inf(1)
+		case e1 == 1:
+			return 0, sign * math.Exp(-c.lnB)
+		}
+		return 0, 0
+	}
+	return func(u float64) (float64, float64, float64) {
+		switch {
+		case math.IsNaN(u):
+			return u, u, u
+		case u < 0:
+			return 0, 0, 0
+		case u > 1:
+			return 1, 0, 0
+		case u == 0:
+			f, s := edge(a1, 1)
+			if a1 == 0 {
+				s = -b1 * f
 			}
-			return d.CDF(x), f, 0
+			return 0, f, s
+		case u == 1:
+			f, s := edge(b1, -1)
+			if b1 == 0 {
+				s = a1 * f
+			}
+			return 1, f, s
 		}
 		v := 1 - u
 		lo, _, k := c.tailsK(u, v)
-		f := k / (u * v)
-		return lo, f / w, f * (a1/u - b1/v) / (w * w)
+		var f float64
+		if k > 0 && !math.IsInf(k, 0) {
+			f = k / u / v
+		} else {
+			// The power term under- or overflows where the density need
+			// not (u or 1 − u subnormal): the density in logs.
+			f = c.density(u, v)
+		}
+		slope := 0.0
+		if f != 0 {
+			slope = f*a1/u - f*b1/v
+		}
+		return lo, f, slope
+	}
+}
+
+// CurveFunc is the Beta's CurveFunc on the quantity's scale: the density
+// and its slope divided by (U−L) and (U−L)². Where (U−L)² under- or
+// overflows the slope is not representable on this scale (bounds 1e-154
+// apart or 1e154 wide); draw in the unit scale there, as web/chart does.
+func (d ScaledBeta) CurveFunc() func(x float64) (cdf, pdf, slope float64) {
+	w := d.width()
+	f := d.Beta.CurveFunc()
+	return func(x float64) (float64, float64, float64) {
+		c, p, s := f(d.toUnit(x))
+		return c, p / w, s / w / w
 	}
 }
 

@@ -73,8 +73,26 @@ func TestCurveFuncAtTheBounds(t *testing.T) {
 	if _, _, slope := (ScaledBeta{Beta{4, 1.5}, 0, 1}).CurveFunc()(1); !math.IsInf(slope, -1) {
 		t.Errorf("Beta(4,1.5) at 1: slope %v, want -Inf", slope)
 	}
-	if _, pdf, _ := (ScaledBeta{Beta{0.5, 4}, 0, 1}).CurveFunc()(0); !math.IsInf(pdf, 1) {
-		t.Errorf("Beta(0.5,4) at 0: pdf %v, want +Inf", pdf)
+	if _, pdf, slope := (ScaledBeta{Beta{0.5, 4}, 0, 1}).CurveFunc()(0); !math.IsInf(pdf, 1) || !math.IsInf(slope, -1) {
+		t.Errorf("Beta(0.5,4) at 0: pdf %v and slope %v, want +Inf and -Inf (the density falls from infinity)", pdf, slope)
+	}
+	// Shape 1 at a bound: Beta(1, 3) is 3(1−u)², so f(0) = 3, f′(0) = −6.
+	if _, pdf, slope := (Beta{1, 3}).CurveFunc()(0); !relClose(pdf, 3, 1e-14) || !relClose(slope, -6, 1e-14) {
+		t.Errorf("Beta(1,3) at 0: pdf %v slope %v, want 3 and -6", pdf, slope)
+	}
+	// Outside the range the density and its slope are 0.
+	for _, c := range []struct {
+		d      Beta
+		u, cdf float64
+	}{{Beta{2, 5}, -0.1, 0}, {Beta{1.5, 5}, -0.1, 0}, {Beta{2, 5}, 1.2, 1}} {
+		if cdf, pdf, slope := c.d.CurveFunc()(c.u); cdf != c.cdf || pdf != 0 || slope != 0 {
+			t.Errorf("%v at %v: %v %v %v, want %v 0 0", c.d, c.u, cdf, pdf, slope, c.cdf)
+		}
+	}
+	// At a subnormal u, where the power term underflows and the density
+	// does not: Beta(2, 2) is 6u(1−u), so f ≈ 6u and f′ ≈ 6.
+	if _, pdf, slope := (Beta{2, 2}).CurveFunc()(1e-310); !relClose(pdf, 6e-310, 1e-6) || !relClose(slope, 6, 1e-9) {
+		t.Errorf("Beta(2,2) at 1e-310: pdf %v slope %v, want 6e-310 and 6", pdf, slope)
 	}
 }
 
@@ -110,5 +128,21 @@ func TestQuantileFromAgreesWithQuantile(t *testing.T) {
 	}
 	if got := (ScaledBeta{Beta{-2, 3}, 5, 9}).QuantileFrom(0.5, 7); !math.IsNaN(got) {
 		t.Errorf("invalid Beta: %v, want NaN", got)
+	}
+}
+
+// TestLogSubnormal checks logSub where Go's math.Log on amd64 is wrong:
+// a subnormal float64 is m·2⁻¹⁰⁷⁴ exactly, m its bits as an integer
+// (IEEE 754), so ln x = ln m − 1074·ln 2; a normal 1e-300 against
+// −300·ln 10.
+func TestLogSubnormal(t *testing.T) {
+	for _, x := range []float64{1e-310, 1e-320, 5e-324, 0x1p-1023} {
+		m := float64(math.Float64bits(x))
+		if got, want := logSub(x), math.Log(m)-1074*math.Ln2; !relClose(got, want, 1e-14) {
+			t.Errorf("ln %v: %v, want %v", x, got, want)
+		}
+	}
+	if got, want := logSub(1e-300), -300*math.Ln10; !relClose(got, want, 1e-14) {
+		t.Errorf("ln 1e-300: %v, want %v", got, want)
 	}
 }

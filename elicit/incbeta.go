@@ -169,9 +169,20 @@ func (c *incBeta) lnPower(x, y float64) float64 {
 // logX is ln x for x + y = 1, taken from the smaller of the two.
 func logX(x, y float64) float64 {
 	if x <= 0.5 {
-		return math.Log(x)
+		return logSub(x)
 	}
 	return math.Log1p(-y)
+}
+
+// logSub is ln x for x > 0, right for subnormal x too: Go's math.Log on
+// amd64 (assembly) returns about ln 2⁻¹⁰²³ = −709.09 for every subnormal
+// (ln 1e-310 comes out −709.09 for −713.80), so those are scaled into
+// the normal range first.
+func logSub(x float64) float64 {
+	if x > 0 && x < 0x1p-1022 {
+		return math.Log(x*0x1p52) - 52*math.Ln2
+	}
+	return math.Log(x)
 }
 
 // tails returns I_x(a, b) and 1 − I_x(a, b) for y = 1 − x, the smaller of

@@ -15,8 +15,9 @@ type Curve struct {
 	Role  Role
 	Dist  Distribution
 	// Percentiles are the curve's 5th, 50th and 95th percentiles when
-	// they are already known (a fit's); nil has them computed. They seed
-	// the search for a smooth Beta's window.
+	// they are already known (a fit's), or nil. They are starting points
+	// only: a smooth Beta's percentiles and window are solved for from
+	// them, so wrong ones cost time, never a wrong picture.
 	Percentiles *[3]float64
 }
 

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"math"
+	"sort"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -13,15 +14,19 @@ import (
 // pieces through a few knots instead of as a polyline through
 // gridPoints+1 samples: at each knot the density's and the CDF's values
 // and slopes are known exactly (the CDF's slope is the density, the
-// density's comes from its log-derivative, elicit.ScaledBeta.CurveFunc),
-// so each piece is the cubic Hermite interpolant, whose error between two
-// knots h apart is at most h⁴/384·max|f⁗| (Burden & Faires, "Numerical
-// Analysis", Theorem 3.13). Knots are placed adaptively: a piece is halved
-// until, at its midpoint, the Hermite cubic lies within smoothTolerance
-// pixels of the curve in the wide layout, whose plots are the taller; the
-// compact layout's are shorter, so its error is smaller still. A test
-// compares every piece with the exact curve at many points between its
-// knots.
+// density's comes from its log-derivative, elicit.Beta.CurveFunc, on the
+// unit scale so that no bounds' width puts them out of range), so each
+// piece is the cubic Hermite interpolant, whose error between two knots h
+// apart is at most h⁴/384·max|f⁗| (Burden & Faires, "Numerical
+// Analysis", Theorem 3.13). Knots are placed adaptively, starting on the
+// curve's own window so that a narrow expert in a wide panel is resolved:
+// a piece is halved until, at its midpoint, the Hermite cubic lies within
+// smoothTolerance pixels of the curve in the wide layout, whose plots are
+// the taller (the compact layout's are shorter, so its error is smaller
+// still), or at most smoothDepth times; a curve that then still misses
+// by more than smoothLast times the tolerance is drawn as the clipped
+// polyline. Tests compare every piece with the exact curve at many points
+// between its knots, alone and in panels.
 //
 // Shapes below 2 keep the polyline: their density or its slope is
 // infinite at a bound, where no cubic follows it, and their density's
@@ -42,58 +47,104 @@ func smoothShape(b elicit.ScaledBeta) bool {
 // pixels, between a drawn piece and the curve at the piece's midpoint.
 const smoothTolerance = 0.1
 
-// Knot placement starts from smoothStart equal pieces and halves a piece
-// at most smoothDepth times.
+// Knot placement starts from smoothStart equal pieces over the curve's
+// own window (its 0.1–99.9% range, widened), with a knot also at its
+// mode, and pieces doubling in width on each side out to the picture's
+// window; it halves a piece at most smoothDepth times. A piece at that
+// depth may miss by up to smoothLast times the tolerance; a curve with a
+// piece that misses by more is drawn as the clipped polyline instead.
 const (
 	smoothStart = 8
 	smoothDepth = 8
+	// smoothLast is how far past the tolerance a piece at the greatest
+	// depth may still be, as a multiple of it: 0.25 px.
+	smoothLast = 2.5
 )
 
-// knot is a smooth Beta's CDF, density and the density's slope at x.
+// knot is a smooth Beta's CDF, density and the density's slope at u, on
+// the unit scale of Beta(α, β): the quantity is Lower + (Upper−Lower)·u.
+// The bounds' width enters only the map to pixels, so bounds of any width
+// the question allows keep every number in range.
 type knot struct {
-	x, cdf, pdf, slope float64
+	u, cdf, pdf, slope float64
 }
 
-// smoothKnots places the knots of b's cubic pieces over [x0, x1]; top is
-// the density's largest value, which sets the density plot's scale.
-func smoothKnots(b elicit.ScaledBeta, x0, x1, top float64) []knot {
-	f := b.CurveFunc()
-	at := func(x float64) knot {
-		c, p, s := f(x)
-		return knot{x, c, p, s}
+// smoothKnots places the knots of b's cubic pieces over [x0, x1], the
+// picture's window, from b's span s; ok is false when some piece misses
+// the tolerance at the greatest depth.
+func smoothKnots(b elicit.ScaledBeta, x0, x1 float64, s curveSpan) (ks []knot, ok bool) {
+	f := b.Beta.CurveFunc()
+	w := b.Upper - b.Lower
+	unit := func(x float64) float64 { return math.Min(1, math.Max(0, (x-b.Lower)/w)) }
+	at := func(u float64) knot {
+		c, p, sl := f(u)
+		return knot{u, c, p, sl}
 	}
-	// Data units per wide-layout pixel: the density axis tops out at
-	// 1.08 times the density's top (newTwin), at most; a panel's axis
+	// Unit densities per wide-layout pixel: the density axis tops out
+	// at 1.08 times the density's top (newTwin), at least; a panel's axis
 	// is taller still, which only makes pieces more exact.
-	tolPDF := smoothTolerance * 1.08 * top / wideLayout.DensityH
+	m, _ := b.Beta.Mode()
+	tolPDF := smoothTolerance * 1.08 * b.Beta.PDF(m) / wideLayout.DensityH
 	tolCDF := smoothTolerance / wideLayout.CDFH
-	out := make([]knot, 0, 4*smoothStart)
+
+	u0, u1 := unit(x0), unit(x1)
+	seeds := []float64{u0, u1}
+	own0, own1 := math.Max(u0, unit(s.ownX0)), math.Min(u1, unit(s.ownX1))
+	if span := own1 - own0; span > 0 {
+		for k := 0; k <= smoothStart; k++ {
+			seeds = append(seeds, own0+span*float64(k)/smoothStart)
+		}
+		// Out to the picture's window in pieces that double in width, so
+		// that the steep flanks of a narrow curve are not one long piece.
+		for d := span; own0-d > u0 || own1+d < u1; d *= 2 {
+			seeds = append(seeds, own0-d, own1+d)
+		}
+	}
+	// Knots at the peak and at the tails: where a shape lies between 2
+	// and 3 the density leaves its bound as t^(shape−1), flat at the bound
+	// but curving sharply just inside, and the tail's knot gives that
+	// stretch a short piece of its own.
+	seeds = append(seeds, m, unit(s.lo), unit(s.hi))
+	sort.Float64s(seeds)
+
+	ok = true
+	ks = make([]knot, 0, 4*len(seeds))
 	var refine func(a, z knot, depth int)
 	refine = func(a, z knot, depth int) {
-		h := z.x - a.x
-		m := at(a.x + h/2)
+		h := z.u - a.u
+		mid := at(a.u + h/2)
 		// The Hermite cubics' values at the midpoint.
 		hp := (a.pdf+z.pdf)/2 + h*(a.slope-z.slope)/8
 		hc := (a.cdf+z.cdf)/2 + h*(a.pdf-z.pdf)/8
-		if depth < smoothDepth && (!(math.Abs(hp-m.pdf) <= tolPDF) || !(math.Abs(hc-m.cdf) <= tolCDF)) {
-			refine(a, m, depth+1)
-			refine(m, z, depth+1)
+		if !(math.Abs(hp-mid.pdf) <= tolPDF) || !(math.Abs(hc-mid.cdf) <= tolCDF) {
+			if depth >= smoothDepth {
+				if !(math.Abs(hp-mid.pdf) <= smoothLast*tolPDF) || !(math.Abs(hc-mid.cdf) <= smoothLast*tolCDF) {
+					ok = false
+					return
+				}
+				ks = append(ks, z)
+				return
+			}
+			refine(a, mid, depth+1)
+			refine(mid, z, depth+1)
 			return
 		}
-		out = append(out, z)
+		ks = append(ks, z)
 	}
-	prev := at(x0)
-	out = append(out, prev)
-	for k := 1; k <= smoothStart; k++ {
-		x := x0 + (x1-x0)*float64(k)/smoothStart
-		if k == smoothStart {
-			x = x1
+	prev := at(u0)
+	ks = append(ks, prev)
+	for _, u := range seeds[1:] {
+		if !(u > prev.u) || u > u1 {
+			continue // a repeated or out-of-window seed
 		}
-		next := at(x)
+		next := at(u)
 		refine(prev, next, 0)
 		prev = next
 	}
-	return out
+	if !ok || len(ks) < 2 {
+		return nil, false
+	}
+	return ks, true
 }
 
 // smoothTop is the largest value of a smooth Beta's density: at its mode.
@@ -103,29 +154,30 @@ func smoothTop(b elicit.ScaledBeta) float64 {
 }
 
 // smoothSpan is a smooth Beta's span on [lower, upper]. Its percentiles
-// are known ones (a fit's) or solved for from the median's close
+// are solved for from starting points: known ones (a fit's, which then
+// cost one evaluation each to confirm) or the median's close
 // approximation (α−⅓)/(α+β−⅔) (Kerman 2011, "A closed-form approximation
-// for the median of the beta distribution"); its tails are solved for
-// from starting points extrapolated on the logit scale, where a Beta is
-// close to normal. The starting points only save work: the solves are
-// elicit's bracketed ones.
+// for the median of the beta distribution") and the logit scale, where a
+// Beta is close to normal; its tails from points extrapolated on the
+// logit scale. The starting points only save work: the solves are
+// elicit's bracketed ones, so what is remembered is the Beta's own.
 func smoothSpan(b elicit.ScaledBeta, lower, upper float64, known *[3]float64) curveSpan {
 	a, bb := b.Alpha, b.Beta.Beta
 	w := b.Upper - b.Lower
 	logit := func(x float64) float64 { u := (x - b.Lower) / w; return math.Log(u / (1 - u)) }
 	expit := func(l float64) float64 { return b.Lower + w/(1+math.Exp(-l)) }
-	var s curveSpan
+	var guess [3]float64
 	if known != nil {
-		s.percentile = *known
+		guess = *known
 	} else {
-		med := b.QuantileFrom(0.5, b.Lower+w*(a-1.0/3)/(a+bb-2.0/3))
+		med := b.Lower + w*(a-1.0/3)/(a+bb-2.0/3)
 		// The logit of a Beta has a variance of about 1/α + 1/β.
 		sd := math.Sqrt(1/a + 1/bb)
-		s.percentile = [3]float64{
-			b.QuantileFrom(percentileProbs[0], expit(logit(med)-1.645*sd)),
-			med,
-			b.QuantileFrom(percentileProbs[2], expit(logit(med)+1.645*sd)),
-		}
+		guess = [3]float64{expit(logit(med) - 1.645*sd), med, expit(logit(med) + 1.645*sd)}
+	}
+	var s curveSpan
+	for k, p := range percentileProbs {
+		s.percentile[k] = b.QuantileFrom(p, guess[k])
 	}
 	// z(0.999)/z(0.95) = 3.090/1.645.
 	const stretch = 3.090 / 1.645
@@ -137,16 +189,24 @@ func smoothSpan(b elicit.ScaledBeta, lower, upper float64, known *[3]float64) cu
 	return s
 }
 
-// bezierPath draws the knots' values (cdf or density, by which) as cubic
-// Bézier pieces in f: a Hermite piece from (x₀, y₀, slope s₀) to
-// (x₁, y₁, s₁) has control points (x₀ + h/3, y₀ + h·s₀/3) and
-// (x₁ − h/3, y₁ − h·s₁/3), h = x₁ − x₀, and the frame's map to pixels is
-// affine, so it maps them too. A piece as wide as the one before it is
-// written with SVG's S command: its first control point is then the
-// reflection of the previous piece's second about their shared knot,
-// which is exactly the Hermite one, since the slope at the knot is
-// shared.
-func (f frame) bezierPath(ks []knot, density bool) string {
+// bezierPath draws the knots' values (cdf or density, by which) of a Beta
+// on [lower, lower + w] as cubic Bézier pieces in f: a Hermite piece from
+// (u₀, y₀, slope s₀) to (u₁, y₁, s₁) has control points
+// (u₀ + h/3, y₀ + h·s₀/3) and (u₁ − h/3, y₁ − h·s₁/3), h = u₁ − u₀, and
+// the maps from the unit scale to the quantity's (x = lower + w·u, a
+// density divided by w) and on to pixels are affine, so they map them too.
+// A piece as wide as the one before it is written with SVG's S command:
+// its first control point is then the reflection of the previous piece's
+// second about their shared knot, which is exactly the Hermite one, since
+// the slope at the knot is shared.
+func (f frame) bezierPath(ks []knot, lower, w float64, density bool) string {
+	px := func(u float64) float64 { return f.px(lower + w*u) }
+	py := func(y float64) float64 {
+		if density {
+			return f.py(y / w)
+		}
+		return f.py(y)
+	}
 	val := func(k knot) (y, slope float64) {
 		if density {
 			return k.pdf, k.slope
@@ -156,22 +216,22 @@ func (f frame) bezierPath(ks []knot, density bool) string {
 	b := make([]byte, 0, 16+32*len(ks))
 	y0, s0 := val(ks[0])
 	b = append(b, 'M')
-	b = appendXY(b, f.px(ks[0].x), f.py(y0))
+	b = appendXY(b, px(ks[0].u), py(y0))
 	prevH := math.NaN()
 	for i := 1; i < len(ks); i++ {
 		a, z := ks[i-1], ks[i]
-		h := z.x - a.x
+		h := z.u - a.u
 		y1, s1 := val(z)
 		if math.Abs(h-prevH) <= 1e-9*h {
 			b = append(b, " S"...)
 		} else {
 			b = append(b, " C"...)
-			b = appendXY(b, f.px(a.x+h/3), f.py(y0+h*s0/3))
+			b = appendXY(b, px(a.u+h/3), py(y0+h*s0/3))
 			b = append(b, ' ')
 		}
-		b = appendXY(b, f.px(z.x-h/3), f.py(y1-h*s1/3))
+		b = appendXY(b, px(z.u-h/3), py(y1-h*s1/3))
 		b = append(b, ' ')
-		b = appendXY(b, f.px(z.x), f.py(y1))
+		b = appendXY(b, px(z.u), py(y1))
 		y0, s0, prevH = y1, s1, h
 	}
 	return string(b)

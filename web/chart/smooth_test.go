@@ -247,12 +247,43 @@ func TestWindowAndTopAreSnapped(t *testing.T) {
 				t.Errorf("%v: window end %v is not a multiple of about %v", d, x, step)
 			}
 		}
-		ts := niceStep(g.DensityTop, 8)
+		ts := niceStep(g.DensityTop, 16)
 		if r := g.DensityTop / ts; math.Abs(r-math.Round(r)) > 1e-9 {
 			t.Errorf("%v: density top %v is not a multiple of %v", d, g.DensityTop, ts)
 		}
 		if g.DensityTop < 1.08*smoothTop(d) {
 			t.Errorf("%v: density top %v below 1.08 times the mode's density %v", d, g.DensityTop, smoothTop(d))
+		}
+	}
+}
+
+// TestSmoothFallsBackToThePolyline: a smooth Beta whose knots cannot meet
+// the tolerance within smoothDepth halvings is drawn as the clipped
+// polyline. The span is remembered wrong on purpose (its own window far
+// from the curve), so only the mode's knot is near the curve and its
+// flanks fall in pieces 700 standard deviations long.
+func TestSmoothFallsBackToThePolyline(t *testing.T) {
+	remembered.reset()
+	d := sbeta(3e6, 7e6, 0, 1) // all its mass within 0.001 of 0.3
+	fake := smoothSpan(d, 0, 1, nil)
+	fake.ownX0, fake.ownX1 = 0.5, 0.6
+	fake.lo, fake.hi, fake.percentile = 0.5, 0.6, [3]float64{0.52, 0.55, 0.58}
+	if _, ok := smoothKnots(d, 0, 1, fake); ok {
+		t.Fatal("knots seeded away from the curve met the tolerance; the test needs them not to")
+	}
+	remembered.spans.Get(spanKey{d, 0, 1}, func() curveSpan { return fake })
+	// Stated points near both bounds hold the window at [0, 1].
+	g := newTwin(wideLayout, "q", "", 0, 1, []Curve{{Label: "x", Dist: d}}, []float64{0.01, 0.99}, false)
+	if g.X0 != 0 || g.X1 != 1 {
+		t.Fatalf("window [%v, %v], want [0, 1]", g.X0, g.X1)
+	}
+	l := g.Lines[0]
+	if strings.Contains(l.Density, "C") || !strings.Contains(l.Density, "L") {
+		t.Fatalf("not drawn as a polyline: %.80s", l.Density)
+	}
+	for _, p := range pathSamples(t, l.Density, 1) {
+		if p[1] < g.dens.Top-1e-9 || p[1] > g.dens.bottom()+1e-9 {
+			t.Fatalf("the polyline leaves the plot at y = %v", p[1])
 		}
 	}
 }

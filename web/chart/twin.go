@@ -224,13 +224,25 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 			var p paths
 			if smooth[i] {
 				b, _ := c.beta()
-				ks := remembered.knots.Get(gridKey{b, x0, x1}, func() []knot { return smoothKnots(b, x0, x1, sp[i].top) })
-				p.density = dens.bezierPath(ks, true)
-				p.cumul = cumul.bezierPath(ks, false)
-				if area {
-					p.area = dens.closeArea(p.density, dens.px(x0), dens.px(x1))
+				ks := remembered.knots.Get(gridKey{b, x0, x1}, func() []knot {
+					ks, _ := smoothKnots(b, x0, x1, sp[i])
+					return ks
+				})
+				if ks != nil {
+					w := b.Upper - b.Lower
+					p.density = dens.bezierPath(ks, b.Lower, w, true)
+					p.cumul = cumul.bezierPath(ks, b.Lower, w, false)
+					if area {
+						p.area = dens.closeArea(p.density, dens.px(x0), dens.px(x1))
+					}
+					return p
 				}
-				return p
+				// Too narrow for cubic pieces at the picture's scale:
+				// the polyline, clipped to the plot.
+				if xs == nil {
+					xs = dens.grid(gridPoints)
+				}
+				ys[i] = c.sample(xs, x0, x1)
 			}
 			p.density, p.clipped = dens.linePath(xs, ys[i].pdf)
 			p.cumul, _ = cumul.linePath(xs, ys[i].cdf)
@@ -330,13 +342,13 @@ func renderString(c templ.Component) string {
 }
 
 // snapTop rounds a density axis's top up to a multiple of a round step
-// of about an eighth of it, so that drafts whose density's top moves a
-// little share their axis.
+// of about a sixteenth of it, so that drafts whose density's top moves a
+// little share their axis; the peak still fills over 85% of the plot.
 func snapTop(top float64) float64 {
 	if !(top > 0) || !isFinite(top) {
 		return top
 	}
-	step := niceStep(top, 8)
+	step := niceStep(top, 16)
 	if t := math.Ceil(top/step) * step; isFinite(t) && t >= top {
 		return t
 	}
