@@ -22,7 +22,8 @@ type spanKey struct {
 	lower, upper float64
 }
 
-// gridKey is a Beta curve sampled at gridPoints+1 points over [x0, x1].
+// gridKey is a Beta curve over the window [x0, x1]: the key of its samples
+// at gridPoints+1 points, or of its knots when it is drawn smooth.
 type gridKey struct {
 	dist   elicit.ScaledBeta
 	x0, x1 float64
