@@ -25,6 +25,8 @@ func TestNarrowSmoothBetaInAPanelStaysInThePicture(t *testing.T) {
 		{sbeta(0.8, 5, 0, 1), sbeta(2, 5000, 0, 1)},
 		{sbeta(2, 20, 0, 1), sbeta(2, 2e4, 0, 1)},
 		{sbeta(3, 3, 0, 1), sbeta(2, 1e4, 0, 1)},
+		{sbeta(3, 3, 0, 1), sbeta(2, 1e5, 0, 1)},
+		{sbeta(2, 2, 0, 1), sbeta(3e6, 7e6, 0, 1)},
 	} {
 		remembered.reset()
 		html := render(t, Panel(PanelView{ID: "p", Quantity: "q", Lower: 0, Upper: 1, Curves: []Curve{
