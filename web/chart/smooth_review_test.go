@@ -5,9 +5,11 @@ package chart
 // the code is broken in the way its comment says.
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strings"
+	"sync"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -138,4 +140,43 @@ func TestFrameKeyCoversTitleAndTop(t *testing.T) {
 	if a.AxesSVG == c.AxesSVG {
 		t.Errorf("twins with density tops %v and %v share one frame", a.DensityTop, c.DensityTop)
 	}
+}
+
+// Pictures of three questions drawn at once by eight goroutines share
+// windows, so their frames come from the one memo: each picture carries
+// its own question's title and no other's (run under -race in CI).
+func TestConcurrentPicturesKeepTheirOwnFrames(t *testing.T) {
+	remembered.reset()
+	var wg sync.WaitGroup
+	for w := range 8 {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for i := range 30 {
+				d := sbeta(2.022+0.001*float64(i%5), 40.59, 0, 1)
+				v := fitViewOf(d, Point{0.01, 0.05}, Point{0.04, 0.5}, Point{0.12, 0.95})
+				v.Quantity = fmt.Sprintf("quantity-%d", w%3)
+				var b strings.Builder
+				if err := Fit(v).Render(context.Background(), &b); err != nil {
+					t.Error(err)
+					return
+				}
+				if html := b.String(); !strings.Contains(html, v.Quantity) || strings.Count(html, "quantity-") != strings.Count(html, v.Quantity) {
+					t.Errorf("worker %d: a picture carries another question's title", w)
+					return
+				}
+				pv := PanelView{ID: "p", Quantity: v.Quantity, Lower: 0, Upper: 1, Curves: []Curve{{Label: "E1", Dist: d}, {Label: "E2", Dist: sbeta(0.5, 3, 0, 1)}}}
+				b.Reset()
+				if err := Panel(pv).Render(context.Background(), &b); err != nil {
+					t.Error(err)
+					return
+				}
+				if html := b.String(); strings.Count(html, "quantity-") != strings.Count(html, v.Quantity) {
+					t.Errorf("worker %d: a panel carries another question's title", w)
+					return
+				}
+			}
+		}()
+	}
+	wg.Wait()
 }
