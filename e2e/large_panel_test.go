@@ -4,8 +4,15 @@ import (
 	"context"
 	"fmt"
 	"net/http"
+	"os"
+	"os/exec"
+	"path/filepath"
 	"strconv"
 	"testing"
+
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
@@ -14,7 +21,8 @@ import (
 // TestLargePanelPages opens a 60-expert question as the facilitator at a
 // phone's width and at a projector's: the question, its reasons, its
 // whole history and the report fit the screen, pass axe-core, and draw
-// the strip of intervals, one row per expert (invented panel).
+// the strip of intervals, one row per expert (invented panel); printed,
+// the strip's median dots and intervals are inked.
 func TestLargePanelPages(t *testing.T) {
 	const n = 60
 	s := startSite(t)
@@ -85,4 +93,60 @@ func TestLargePanelPages(t *testing.T) {
 	fac.viewport(1366, 844, false)
 	fac.open(qp)
 	fac.sees("the large panel", "The 60 experts", "The whole history", "Read them and withhold any that names a person")
+
+	// The strip's medians are zero-length path segments with round caps,
+	// which a PDF paints as dots only if the printer keeps them. Print the
+	// report with everything hidden but the medians, then with everything
+	// hidden but the intervals, and count the ink.
+	raster, err := exec.LookPath("pdftoppm")
+	if err != nil {
+		t.Logf("SKIPPING the strip's print check: pdftoppm not found (%v); .ci/run installs poppler-utils", err)
+		return
+	}
+	fac.open(base + "/report")
+	ink := func(only string) int {
+		t.Helper()
+		eval[bool](fac, "show only "+only, fmt.Sprintf(`(() => {
+			for (const e of document.querySelectorAll("body *")) e.style.visibility = "hidden";
+			for (const e of document.querySelectorAll(%q)) e.style.visibility = "visible";
+			return true;
+		})()`, only))
+		var pdf []byte
+		fac.do("print to PDF", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+			res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: 8.27, PaperHeight: 11.69})
+			pdf = res.Data
+			return err
+		}))
+		dir := t.TempDir()
+		path := filepath.Join(dir, "strip.pdf")
+		if err := os.WriteFile(path, pdf, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		if out, err := exec.Command(raster, "-r", "200", "-gray", path, filepath.Join(dir, "page")).CombinedOutput(); err != nil {
+			t.Fatalf("pdftoppm: %v\n%s", err, out)
+		}
+		files, _ := filepath.Glob(filepath.Join(dir, "page-*.pgm"))
+		dark := 0
+		for _, f := range files {
+			_, _, pix := readPGM(t, f)
+			for _, v := range pix {
+				if v < 200 {
+					dark++
+				}
+			}
+		}
+		return dark
+	}
+	// At 200 dpi a median's dot (2.2 units of the strip's 640, across a
+	// card narrower than the page) is about 3.5 px across: at least 3
+	// inked pixels each. A printer that drops zero-length segments
+	// leaves none.
+	dots, lines := ink("path.spread-medians"), ink("path.spread-intervals")
+	t.Logf("printed strip: %d inked pixels of medians, %d of intervals, for %d experts", dots, lines, n)
+	if dots < 3*n {
+		t.Errorf("the printed strip's medians leave %d inked pixels, want at least %d (a dot per expert)", dots, 3*n)
+	}
+	if lines < 3*n {
+		t.Errorf("the printed strip's intervals leave %d inked pixels, want at least %d", lines, 3*n)
+	}
 }
