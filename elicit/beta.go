@@ -341,19 +341,6 @@ func (d Beta) CurveFunc() func(u float64) (cdf, pdf, slope float64) {
 	}
 }
 
-// CurveFunc is the Beta's CurveFunc on the quantity's scale: the density
-// and its slope divided by (U−L) and (U−L)². Where (U−L)² under- or
-// overflows the slope is not representable on this scale (bounds 1e-154
-// apart or 1e154 wide); draw in the unit scale there, as web/chart does.
-func (d ScaledBeta) CurveFunc() func(x float64) (cdf, pdf, slope float64) {
-	w := d.width()
-	f := d.Beta.CurveFunc()
-	return func(x float64) (float64, float64, float64) {
-		c, p, s := f(d.toUnit(x))
-		return c, p / w, s / w / w
-	}
-}
-
 // QuantileFrom is Quantile solved from a starting estimate on the
 // quantity's scale (a nearby quantile already known, for one) instead of
 // gonum's inverse. The solve is Quantile's own bracketed one, so a poor

@@ -12,33 +12,25 @@ import (
 // dbeta in beta_test.go) and the slope against gonum's central finite
 // difference of the PDF, the library as the oracle.
 func TestCurveFuncAgrees(t *testing.T) {
-	shapes := []ScaledBeta{
-		{Beta{2.022, 40.59}, 0, 1},
-		{Beta{2, 2}, 0, 1},
-		{Beta{4.2, 17.9}, 10, 500},
-		{Beta{55, 3.5}, -1, 1},
-		{Beta{2000, 50000}, 0, 1},
-		{Beta{1.5, 7}, 0, 1},
-		{Beta{30, 12}, 0, 100},
-	}
+	shapes := []Beta{{2.022, 40.59}, {2, 2}, {4.2, 17.9}, {55, 3.5}, {2000, 50000}, {1.5, 7}, {30, 12}}
 	for _, d := range shapes {
 		f := d.CurveFunc()
 		for _, p := range []float64{1e-6, 0.001, 0.05, 0.3, 0.5, 0.7, 0.95, 0.999, 1 - 1e-6} {
-			x := d.Quantile(p)
-			cdf, pdf, slope := f(x)
-			if !relClose(cdf, d.CDF(x), 1e-13) {
-				t.Errorf("%v at %v: cdf %v, CDF %v", d, x, cdf, d.CDF(x))
+			u := d.Quantile(p)
+			cdf, pdf, slope := f(u)
+			if !relClose(cdf, d.CDF(u), 1e-13) {
+				t.Errorf("%v at %v: cdf %v, CDF %v", d, u, cdf, d.CDF(u))
 			}
-			if !relClose(pdf, d.PDF(x), 1e-12) {
-				t.Errorf("%v at %v: pdf %v, PDF %v", d, x, pdf, d.PDF(x))
+			if !relClose(pdf, d.PDF(u), 1e-12) {
+				t.Errorf("%v at %v: pdf %v, PDF %v", d, u, pdf, d.PDF(u))
 			}
-			// Central difference with a step of 1e-6 of the x's scale or
-			// of its distance to a bound (gonum's fd.Central, second order).
-			h := 1e-6 * math.Min(d.SD(), math.Min(x-d.Lower, d.Upper-x))
-			want := fd.Derivative(d.PDF, x, &fd.Settings{Formula: fd.Central, Step: h})
+			// Central difference with a step of 1e-6 of the spread or of
+			// the distance to a bound (gonum's fd.Central, second order).
+			h := 1e-6 * math.Min(d.SD(), math.Min(u, 1-u))
+			want := fd.Derivative(d.PDF, u, &fd.Settings{Formula: fd.Central, Step: h})
 			scale := d.PDF(d.Quantile(0.5)) / d.SD() // a typical slope
 			if math.Abs(slope-want) > 1e-5*scale {
-				t.Errorf("%v at %v: slope %v, finite difference %v", d, x, slope, want)
+				t.Errorf("%v at %v: slope %v, finite difference %v", d, u, slope, want)
 			}
 		}
 	}
@@ -48,35 +40,32 @@ func TestCurveFuncAgrees(t *testing.T) {
 // the density and its slope vanish; for 1 < α < 2 the slope is infinite
 // at the lower bound; for α < 1 the density is.
 func TestCurveFuncAtTheBounds(t *testing.T) {
-	cdf, pdf, slope := ScaledBeta{Beta{3, 4}, 0, 1}.CurveFunc()(0)
+	cdf, pdf, slope := Beta{3, 4}.CurveFunc()(0)
 	if cdf != 0 || pdf != 0 || slope != 0 {
 		t.Errorf("Beta(3,4) at 0: %v %v %v, want 0 0 0", cdf, pdf, slope)
 	}
-	cdf, pdf, slope = ScaledBeta{Beta{3, 4}, 0, 1}.CurveFunc()(1)
+	cdf, pdf, slope = Beta{3, 4}.CurveFunc()(1)
 	if cdf != 1 || pdf != 0 || slope != 0 {
 		t.Errorf("Beta(3,4) at 1: %v %v %v, want 1 0 0", cdf, pdf, slope)
 	}
-	// Beta(2, 2) is 6u(1−u): slopes 6 and −6 at the bounds, and on
-	// [0, 2] they are 6/4 and −6/4 (Johnson, Kotz & Balakrishnan 1995,
-	// ch. 25, the density's formula).
-	for _, c := range []struct {
-		d        ScaledBeta
-		x, slope float64
-	}{{ScaledBeta{Beta{2, 2}, 0, 1}, 0, 6}, {ScaledBeta{Beta{2, 2}, 0, 1}, 1, -6}, {ScaledBeta{Beta{2, 2}, 0, 2}, 0, 1.5}, {ScaledBeta{Beta{2, 2}, 0, 2}, 2, -1.5}} {
-		if _, _, slope := c.d.CurveFunc()(c.x); !relClose(slope, c.slope, 1e-14) {
-			t.Errorf("%v at %v: slope %v, want %v", c.d, c.x, slope, c.slope)
+	// Beta(2, 2) is 6u(1−u): slopes 6 and −6 at the bounds (Johnson,
+	// Kotz & Balakrishnan 1995, ch. 25, the density's formula).
+	for _, c := range []struct{ u, slope float64 }{{0, 6}, {1, -6}} {
+		if _, _, slope := (Beta{2, 2}).CurveFunc()(c.u); !relClose(slope, c.slope, 1e-14) {
+			t.Errorf("Beta(2,2) at %v: slope %v, want %v", c.u, slope, c.slope)
 		}
 	}
-	if _, _, slope := (ScaledBeta{Beta{1.5, 4}, 0, 1}).CurveFunc()(0); !math.IsInf(slope, 1) {
+	if _, _, slope := (Beta{1.5, 4}).CurveFunc()(0); !math.IsInf(slope, 1) {
 		t.Errorf("Beta(1.5,4) at 0: slope %v, want +Inf", slope)
 	}
-	if _, _, slope := (ScaledBeta{Beta{4, 1.5}, 0, 1}).CurveFunc()(1); !math.IsInf(slope, -1) {
+	if _, _, slope := (Beta{4, 1.5}).CurveFunc()(1); !math.IsInf(slope, -1) {
 		t.Errorf("Beta(4,1.5) at 1: slope %v, want -Inf", slope)
 	}
-	if _, pdf, slope := (ScaledBeta{Beta{0.5, 4}, 0, 1}).CurveFunc()(0); !math.IsInf(pdf, 1) || !math.IsInf(slope, -1) {
+	if _, pdf, slope := (Beta{0.5, 4}).CurveFunc()(0); !math.IsInf(pdf, 1) || !math.IsInf(slope, -1) {
 		t.Errorf("Beta(0.5,4) at 0: pdf %v and slope %v, want +Inf and -Inf (the density falls from infinity)", pdf, slope)
 	}
-	// Shape 1 at a bound: Beta(1, 3) is 3(1−u)², so f(0) = 3, f′(0) = −6.
+	// Shape 1 at a bound: Beta(1, 3) is 3(1−u)² (the density's formula,
+	// Johnson, Kotz & Balakrishnan 1995, ch. 25), so f(0) = 3, f′(0) = −6.
 	if _, pdf, slope := (Beta{1, 3}).CurveFunc()(0); !relClose(pdf, 3, 1e-14) || !relClose(slope, -6, 1e-14) {
 		t.Errorf("Beta(1,3) at 0: pdf %v slope %v, want 3 and -6", pdf, slope)
 	}

@@ -49,7 +49,9 @@ func TestNarrowSmoothBetaInAPanelStaysInThePicture(t *testing.T) {
 // Bounds that elicit.CheckBounds accepts: on [0, 1e-200] the density's
 // slope in the quantity's units overflows (f′/w², w² underflows to 0), and
 // on [−1e300, 1e300] w² overflows; drawn from knots on the unit scale,
-// the curve stays within a quarter pixel of the Beta's density and CDF.
+// the curve stays within a quarter pixel of the Beta's density and CDF
+// (elicit's PDF and CDF, checked against R's dbeta and pbeta in
+// elicit/beta_test.go).
 func TestSmoothCurveOnExtremeBounds(t *testing.T) {
 	for _, d := range []elicit.ScaledBeta{sbeta(3, 4, 0, 1e-200), sbeta(3, 4, -1e300, 1e300), sbeta(3, 4, 0, 1e160)} {
 		if err := elicit.CheckBounds(d.Lower, d.Upper); err != nil {

@@ -125,15 +125,19 @@ func TestSmoothCurvesFollowTheBeta(t *testing.T) {
 			}
 			dataX := func(px float64) float64 { return g.dens.X0 + (px-g.dens.Left)/g.dens.Width*(g.dens.X1-g.dens.X0) }
 			worst := 0.0
-			f := d.CurveFunc()
+			// The curve's value is elicit's PDF or CDF (checked against R's
+			// dbeta and pbeta in beta_test.go); its slope, which only turns
+			// a vertical offset into a distance square to the curve, is
+			// the unit Beta's scaled to the quantity.
+			f, w := d.Beta.CurveFunc(), d.Upper-d.Lower
 			for _, c := range []struct {
 				path string
 				fr   frame
 				// val is the curve and its slope, in data units.
 				val func(float64) (float64, float64)
 			}{
-				{l.Density, g.dens, func(x float64) (float64, float64) { _, p, s := f(x); return p, s }},
-				{l.Cumul, g.cumul, func(x float64) (float64, float64) { c, p, _ := f(x); return c, p }},
+				{l.Density, g.dens, func(x float64) (float64, float64) { _, _, s := f((x - d.Lower) / w); return d.PDF(x), s / w / w }},
+				{l.Cumul, g.cumul, func(x float64) (float64, float64) { _, p, _ := f((x - d.Lower) / w); return d.CDF(x), p / w }},
 			} {
 				pts := pathSamples(t, c.path, 32)
 				// Pixels per data unit, across and up.
