@@ -3,7 +3,6 @@ package chart
 import (
 	"math"
 	"strconv"
-	"strings"
 )
 
 // FormatValue writes v with four significant figures and no
@@ -14,6 +13,15 @@ func FormatValue(v float64) string {
 	return formatSig(v, 4)
 }
 
+// formatSig writes v rounded to sig significant figures (1 ≤ sig ≤ 17)
+// as the shortest decimal of the rounded value: fixed notation from 1e-4
+// up to 1e7, exponent notation (without "+" or leading zeros) outside.
+// One fixed-precision conversion gives the rounded digits and exponent;
+// they are placed by hand. (A decimal of at most 17 significant figures
+// is the shortest that reads back as its own nearest double, so this
+// writes what formatting that double by the shortest rule would; the
+// test keeps that three-conversion form as its oracle. Subnormals, which
+// hold fewer digits, take that form.)
 func formatSig(v float64, sig int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "not available"
@@ -21,25 +29,78 @@ func formatSig(v float64, sig int) string {
 	if v == 0 {
 		return "0"
 	}
-	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', sig, 64), 64)
-	if a := math.Abs(r); a >= 1e-4 && a < 1e7 {
-		return strconv.FormatFloat(r, 'f', -1, 64)
+	var buf [32]byte
+	e := strconv.AppendFloat(buf[:0], v, 'e', sig-1, 64) // [-]d.ddde±XX
+	if math.Abs(v) < 0x1p-1022 {
+		// A subnormal carries fewer digits than the rounding may give,
+		// so the rounded value is read back and written shortest.
+		r, _ := strconv.ParseFloat(string(e), 64)
+		e = strconv.AppendFloat(buf[:0], r, 'e', -1, 64)
 	}
-	s := strconv.FormatFloat(r, 'e', -1, 64)
-	// 1.2e-07 → 1.2e-7: shorter for a reader.
-	if i := strings.Index(s, "e"); i >= 0 {
-		mant, exp := s[:i], s[i+1:]
-		sign := ""
-		if exp[0] == '-' || exp[0] == '+' {
-			if exp[0] == '-' {
-				sign = "-"
-			}
-			exp = exp[1:]
+	neg := e[0] == '-'
+	if neg {
+		e = e[1:]
+	}
+	i := 0
+	for i < len(e) && e[i] != 'e' {
+		i++
+	}
+	mant, expPart := e[:i], e[i+1:]
+	exp := 0
+	for _, c := range expPart[1:] {
+		exp = 10*exp + int(c-'0')
+	}
+	if expPart[0] == '-' {
+		exp = -exp
+	}
+	// The significant digits, trailing zeros dropped.
+	var digits [24]byte
+	n := 0
+	for _, c := range mant {
+		if c != '.' {
+			digits[n] = c
+			n++
 		}
-		exp = strings.TrimLeft(exp, "0")
-		s = mant + "e" + sign + exp
 	}
-	return s
+	for n > 1 && digits[n-1] == '0' {
+		n--
+	}
+	out := make([]byte, 0, n+12)
+	if neg {
+		out = append(out, '-')
+	}
+	switch {
+	case exp >= -4 && exp < 0:
+		out = append(out, '0', '.')
+		for k := -1; k > exp; k-- {
+			out = append(out, '0')
+		}
+		out = append(out, digits[:n]...)
+	case exp >= 0 && exp < 7:
+		if n <= exp+1 {
+			out = append(out, digits[:n]...)
+			for k := n; k <= exp; k++ {
+				out = append(out, '0')
+			}
+		} else {
+			out = append(out, digits[:exp+1]...)
+			out = append(out, '.')
+			out = append(out, digits[exp+1:n]...)
+		}
+	default:
+		out = append(out, digits[0])
+		if n > 1 {
+			out = append(out, '.')
+			out = append(out, digits[1:n]...)
+		}
+		out = append(out, 'e')
+		if exp < 0 {
+			out = append(out, '-')
+			exp = -exp
+		}
+		out = strconv.AppendInt(out, int64(exp), 10)
+	}
+	return string(out)
 }
 
 // FormatPercent writes a probability as a percentage without noise:

@@ -1,0 +1,91 @@
+package chart
+
+import (
+	"math"
+	"math/rand/v2"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// formatSigByParse is formatSig as first written, three conversions: round
+// to sig figures, read the rounded decimal back, and write that double by
+// the shortest rule. It is the oracle the hand placement must match.
+func formatSigByParse(v float64, sig int) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "not available"
+	}
+	if v == 0 {
+		return "0"
+	}
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', sig, 64), 64)
+	if a := math.Abs(r); a >= 1e-4 && a < 1e7 {
+		return strconv.FormatFloat(r, 'f', -1, 64)
+	}
+	s := strconv.FormatFloat(r, 'e', -1, 64)
+	if i := strings.Index(s, "e"); i >= 0 {
+		mant, exp := s[:i], s[i+1:]
+		sign := ""
+		if exp[0] == '-' || exp[0] == '+' {
+			if exp[0] == '-' {
+				sign = "-"
+			}
+			exp = exp[1:]
+		}
+		exp = strings.TrimLeft(exp, "0")
+		s = mant + "e" + sign + exp
+	}
+	return s
+}
+
+func TestFormatSigMatchesShortestOfRounded(t *testing.T) {
+	vals := []float64{1, -1, 0.5, 9.9995, 9.99949, 99999.95, 9999999.5, 9999999.4, 1e7, 1e-4, 0.000099995,
+		0.00009999, 1.5e-300, 5e-324, math.MaxFloat64, -math.SmallestNonzeroFloat64, 123456789, 0.1 + 0.2,
+		1e22, 1e23, 2.5e-5, 12.5, 100, 1000000, 1234567, 7e6, 6.99995e6}
+	r := rand.New(rand.NewPCG(7, 11))
+	for range 20000 {
+		// Magnitudes over the whole range, with round and ragged mantissas.
+		m := r.Float64() * 10
+		if r.IntN(4) == 0 {
+			m = math.Round(m*1000) / 1000
+		}
+		v := m * math.Pow(10, float64(r.IntN(40)-20))
+		if r.IntN(2) == 0 {
+			v = -v
+		}
+		vals = append(vals, v, math.Float64frombits(r.Uint64()))
+	}
+	for _, v := range vals {
+		for sig := 1; sig <= 6; sig++ {
+			got, want := formatSig(v, sig), formatSigByParse(v, sig)
+			if strings.Contains(want, "Inf") {
+				// The rounded decimal overflows (1.8e308 to one figure is
+				// 2e308): the oracle would write "+Inf"; formatSig writes
+				// the rounded decimal.
+				if _, err := strconv.ParseFloat(got, 64); strings.Contains(got, "Inf") || err == nil {
+					t.Fatalf("formatSig(%v, %d) = %q", v, sig, got)
+				}
+				continue
+			}
+			if got != want {
+				t.Fatalf("formatSig(%v, %d) = %q, the shortest decimal of the rounded value is %q", v, sig, got, want)
+			}
+		}
+	}
+}
+
+func BenchmarkFormatValueByParse(b *testing.B) {
+	for b.Loop() {
+		_ = formatSigByParse(0.0123456, 4)
+		_ = formatSigByParse(1234.5678, 4)
+		_ = formatSigByParse(5, 3)
+	}
+}
+
+func BenchmarkFormatValue(b *testing.B) {
+	for b.Loop() {
+		_ = FormatValue(0.0123456)
+		_ = FormatValue(1234.5678)
+		_ = FormatPercent(0.05)
+	}
+}
