@@ -369,11 +369,14 @@ func (d ScaledBeta) Quantile(p float64) float64 {
 // Mean is Lower + (Upper−Lower)·α/(α+β).
 func (d ScaledBeta) Mean() float64 { return d.Lower + d.width()*d.Beta.Mean() }
 
-// Variance is (Upper−Lower)² times the unit Beta's variance.
+// Variance is (Upper−Lower)² times the unit Beta's variance. On bounds
+// wider than about 1.3e154 it is beyond float64's range (+Inf), though
+// the SD is not: ask for the SD.
 func (d ScaledBeta) Variance() float64 { return d.width() * d.width() * d.Beta.Variance() }
 
-// SD is the standard deviation on the quantity's scale.
-func (d ScaledBeta) SD() float64 { return math.Sqrt(d.Variance()) }
+// SD is the standard deviation on the quantity's scale, (Upper−Lower)
+// times the unit Beta's: finite on every width the bounds allow.
+func (d ScaledBeta) SD() float64 { return d.width() * d.Beta.SD() }
 
 // Mode maps the unit Beta's mode to the quantity's scale.
 func (d ScaledBeta) Mode() (float64, bool) {

@@ -271,18 +271,32 @@ func (p Pool) Mean() float64 {
 // Var X = Σ wᵢ σᵢ² + Σ wᵢ (μᵢ − μ)², with μ the pooled mean (e.g.
 // Frühwirth-Schnatter 2006, "Finite Mixture and Markov Switching Models",
 // §1.2.4).
+// It is computed on the unit scale, where every component lies (they
+// share the pool's bounds), and scaled by (Upper−Lower)²: beyond
+// float64's range (+Inf) on bounds wider than about 1.3e154, where the
+// SD is still finite.
 func (p Pool) Variance() float64 {
-	m := p.Mean()
+	w := p.width()
+	return w * w * p.unitVariance()
+}
+
+// unitVariance is the pool's variance on the unit scale of its bounds.
+func (p Pool) unitVariance() float64 {
+	var m float64
+	for _, c := range p.Components {
+		m += c.Weight * c.Dist.Beta.Mean()
+	}
 	var v float64
 	for _, c := range p.Components {
-		d := c.Dist.Mean() - m
-		v += c.Weight * (c.Dist.Variance() + d*d)
+		d := c.Dist.Beta.Mean() - m
+		v += c.Weight * (c.Dist.Beta.Variance() + d*d)
 	}
 	return v
 }
 
-// SD is the pooled standard deviation.
-func (p Pool) SD() float64 { return math.Sqrt(p.Variance()) }
+// SD is the pooled standard deviation, (Upper−Lower) times the unit
+// scale's: finite on every width the bounds allow.
+func (p Pool) SD() float64 { return p.width() * math.Sqrt(p.unitVariance()) }
 
 // Quantile is the pooled inverse CDF at prob in [0, 1]: the root of
 // F(x) = prob found by quantileIn between the smallest and the largest of
@@ -723,7 +737,7 @@ func (p Pool) representationFit(u, up []float64) (d Beta, sse float64, err error
 	coarse := subsample(u, up, searchStride)
 	starts := [][2]float64{coarse.momentStart()}
 	m := (p.Mean() - p.Lower) / p.width()
-	if v := p.Variance() / (p.width() * p.width()); v > 0 && v < m*(1-m) {
+	if v := p.unitVariance(); v > 0 && v < m*(1-m) {
 		starts = append(starts, clampBox(logShape(m, m*(1-m)/v-1)))
 	}
 	// A pool close to one Beta is settled by local fits from these

@@ -613,3 +613,38 @@ func TestShares(t *testing.T) {
 		}
 	}
 }
+
+// On bounds as wide as CheckBounds allows, the variance is beyond
+// float64's range but the SD is not: it is the width times the unit
+// scale's SD. Beta(3, 5)'s variance is αβ/((α+β)²(α+β+1)) = 15/576 (the
+// textbook formula, e.g. Johnson, Kotz & Balakrishnan, "Continuous
+// Univariate Distributions", vol. 2, ch. 25).
+func TestSDOnTheWidestBounds(t *testing.T) {
+	lo, hi := -1e300, 1e300
+	if err := CheckBounds(lo, hi); err != nil {
+		t.Fatal(err)
+	}
+	d := ScaledBeta{Beta: Beta{Alpha: 3, Beta: 5}, Lower: lo, Upper: hi}
+	if got, want := d.SD(), 2e300*math.Sqrt(15.0/576); !(math.Abs(got-want) <= 1e-15*want) {
+		t.Errorf("SD %v, want %v", got, want)
+	}
+	if !math.IsInf(d.Variance(), 1) {
+		t.Errorf("variance %v: (2e300)² is beyond float64", d.Variance())
+	}
+	ds := []ScaledBeta{d, {Beta: Beta{Alpha: 20, Beta: 4}, Lower: lo, Upper: hi}}
+	p, err := LinearPool(ds, []float64{1, 3})
+	if err != nil {
+		t.Fatal(err)
+	}
+	unit := mustPool(t, unitBetas(3, 5, 20, 4), []float64{1, 3})
+	if got, want := p.SD(), 2e300*unit.SD(); !(math.Abs(got-want) <= 1e-14*want) {
+		t.Errorf("pool SD %v, want the width times the unit pool's, %v", got, want)
+	}
+	r, err := p.BestBeta()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !(r.SDRatio > 0) || math.IsInf(r.SDRatio, 0) {
+		t.Errorf("single Beta's SD ratio %v", r.SDRatio)
+	}
+}

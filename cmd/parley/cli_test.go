@@ -471,3 +471,30 @@ func TestPoolFlatGapAndTail(t *testing.T) {
 		t.Errorf("text output does not say the median is not unique:\n%s", text)
 	}
 }
+
+// Bounds as wide as the rules allow give finite summaries: fit, pool and
+// prior used to fail with exit 1 when the variance, (2e300)² times the
+// unit one, overflowed.
+func TestWidestBoundsOnTheCommandLine(t *testing.T) {
+	for _, c := range []struct {
+		stdin string
+		args  []string
+	}{
+		{"", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "-1e299,0,1e299", "--lower", "-1e300", "--upper", "1e300", "--format", "json"}},
+		{`{"experts":[{"alpha":2,"beta":30},{"alpha":20,"beta":3}],"lower":-1e300,"upper":1e300}`, []string{"pool", "--format", "json"}},
+		{"", []string{"prior", "--uniform", "--upper", "1e300", "--format", "json"}},
+	} {
+		code, out, errOut := runCLI(t, c.stdin, c.args...)
+		if code != 0 {
+			t.Errorf("%v: exit %d: %s", c.args, code, errOut)
+			continue
+		}
+		var v struct {
+			SD float64 `json:"sd"`
+		}
+		decodeJSON(t, out, &v)
+		if !(v.SD > 1e298 && v.SD < 2e300) {
+			t.Errorf("%v: sd %v", c.args, v.SD)
+		}
+	}
+}
