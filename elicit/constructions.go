@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -200,7 +201,32 @@ func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgeme
 		return Judgement{}, inputErr("confidence", RuleProbOpen, "%v is too close to 0 or 1 to give distinct tail probabilities", confidence)
 	}
 	j := Judgement{Probs: []float64{pl, 0.5, ph}, Values: []float64{lowest, best, highest}, Lower: lower, Upper: upper}
-	return j, j.Validate()
+	if err := j.Validate(); err != nil {
+		return j, fourValueError(err)
+	}
+	return j, nil
+}
+
+// fourValueError names the four-value form's own field for an error of
+// the judgement it makes: its probabilities come from the confidence,
+// and its values are lowest, best and highest, in that order.
+func fourValueError(err error) error {
+	var ie *InputError
+	if !errors.As(err, &ie) {
+		return err
+	}
+	switch {
+	case strings.HasPrefix(ie.Field, "probs["):
+		// Only the tails can leave [MinProb, 1 − MinProb]: the confidence
+		// is too close to 1.
+		return inputErr("confidence", RuleConfidenceTails, "tails of %v", ie.Detail)
+	case strings.HasPrefix(ie.Field, "values["):
+		names := map[string]string{"values[0]": "lowest", "values[1]": "best", "values[2]": "highest"}
+		if n, ok := names[ie.Field]; ok {
+			return &InputError{Field: n, Rule: ie.Rule, Detail: ie.Detail}
+		}
+	}
+	return err
 }
 
 // FitChips fits a Beta to a chips-in-bins histogram (trial roulette: Gore

@@ -128,7 +128,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 		// Beside the fields that could be read, every problem at once; a
 		// field that could not be read is not compared with its neighbour.
 		for _, p := range ps {
-			field := answerField(p.Field)
+			field := answerField(q, p.Field)
 			if unread && (f.Error(field) != "" || f.Error(comparedWith(p.Field)) != "" || field == "") {
 				continue
 			}
@@ -144,7 +144,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 		var ie *elicit.InputError
 		field := ""
 		if errors.As(err, &ie) {
-			field = answerField(ie.Field)
+			field = answerField(q, ie.Field)
 		}
 		switch {
 		case errors.Is(err, elicit.ErrFitFailed):
@@ -179,10 +179,27 @@ func comparedWith(field string) string {
 	return ""
 }
 
-// answerField is the form field of an elicit field: a rule about all the
-// chips together belongs to the form as a whole.
-func answerField(field string) string {
-	if field == "counts" {
+// confidenceMaxPercent is the largest confidence the four-value form
+// takes, in percent: 1 − 2e-12 (elicit.RuleConfidenceTails).
+const confidenceMaxPercent = "99.9999999998"
+
+// answerField is the form field of an elicit field for q's form, or ""
+// (the form as a whole) for a field the form does not show: a rule about
+// all the chips together, or any field of another format, so that no
+// message lands where the expert cannot see it.
+func answerField(q workshop.Question, field string) string {
+	shown := false
+	switch q.Format {
+	case workshop.FormatInterval:
+		shown = field == "lowest" || field == "best" || field == "highest" || field == "confidence"
+	case workshop.FormatChips:
+		i, ok := fieldIndex(field)
+		shown = ok && strings.HasPrefix(field, "counts[") && i < len(q.BinEdges)-1
+	default:
+		i, ok := fieldIndex(field)
+		shown = ok && strings.HasPrefix(field, "values[") && i < len(q.Probs)
+	}
+	if !shown {
 		return ""
 	}
 	return field
@@ -226,6 +243,8 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 		if ie.Field == "confidence" {
 			return "Must be more than 0% and less than 100%; you typed " + typed + "."
 		}
+	case elicit.RuleConfidenceTails:
+		return "Must be at most " + confidenceMaxPercent + "%, which leaves a sliver of chance outside your range; you typed " + typed + "."
 	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
 		return "Type a whole number of chips, such as 3, or leave it empty for none."
 	case workshop.RuleChipsExceeded:

@@ -262,6 +262,9 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		} else if ie.Field == "counts" {
 			column = strings.Join(mine, ",")
 		}
+		if ie.Field == "confidence" && ie.Rule == elicit.RuleConfidenceTails {
+			return row, sheetErr(line, "confidence", ie.Rule, "in percent, at most "+confidenceMaxPercent)
+		}
 		if ie.Field == "confidence" {
 			return row, sheetErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
 		}

@@ -158,6 +158,11 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", ruleSheetMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
 		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", input.RuleNumberSyntax},
+		// A four-value row's judgement rules are named by the sheet's own
+		// columns: its tails belong to the confidence, its values to
+		// lowest, best and highest (not to the columns in sheet order).
+		{"a confidence leaving no tail", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,99.9999999999999,\n", "row 3, column confidence", elicit.RuleConfidenceTails},
+		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", ruleSheetQuest},
@@ -250,5 +255,34 @@ func TestSheetUploadPreviewThenSave(t *testing.T) {
 	}
 	if len(g.revisions(t)) != 5 {
 		t.Fatal("a second confirmation saved again")
+	}
+}
+
+// A rule's field lands beside the input of that name only when the
+// question's form shows it; any other goes to the form as a whole, so no
+// message is set where the expert cannot see it.
+func TestAnswerFieldIsOneTheFormShows(t *testing.T) {
+	quant := workshop.Question{Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	four := workshop.Question{Format: workshop.FormatInterval}
+	chips := workshop.Question{Format: workshop.FormatChips, BinEdges: []float64{0, 0.2, 0.5, 1}}
+	for _, c := range []struct {
+		q           workshop.Question
+		field, want string
+	}{
+		{quant, "values[2]", "values[2]"},
+		{quant, "values[3]", ""},
+		{quant, "probs[0]", ""},
+		{quant, "lowest", ""},
+		{four, "confidence", "confidence"},
+		{four, "highest", "highest"},
+		{four, "values[1]", ""},
+		{four, "probs[0]", ""},
+		{chips, "counts[2]", "counts[2]"},
+		{chips, "counts[3]", ""},
+		{chips, "counts", ""},
+	} {
+		if got := answerField(c.q, c.field); got != c.want {
+			t.Errorf("%s form, field %q: %q, want %q", c.q.Format, c.field, got, c.want)
+		}
 	}
 }

@@ -324,6 +324,12 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		// any fit, in an expert's words.
 		{"subnormal values", g.q, quantiles("4.9e-324", "1e-323", "1.5e-323"), "f-values-0", "too close to 0 or 1", "4.9e-324"},
 		{"values too close", g.q, quantiles("0.05", "0.0500000001", "0.4"), "f-values-1", "cannot be told apart", "0.0500000001"},
+		// The four-value form's rules that its judgement checks (tails of
+		// at least 1e-12, values apart) are shown beside its own fields.
+		{"confidence leaving no tail", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.4"}, "best": {"0.2"}, "confidence": {"99.9999999999999"}},
+			"f-confidence", "Must be at most 99.9999999998%", "99.9999999999999"},
+		{"highest too close to best", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.200000000002"}, "best": {"0.200000000001"}, "confidence": {"80"}},
+			"f-highest", "so close to your best estimate that the two cannot be told apart", "0.200000000002"},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
