@@ -179,13 +179,7 @@ func checkScaledInterval(in ConstructionInput) error {
 	if !(in.Low < in.High) {
 		return inputErr("high", RuleValueIncreasing, "%v after %v", in.High, in.Low)
 	}
-	if math.IsNaN(in.Coverage) || math.IsInf(in.Coverage, 0) {
-		return inputErr("coverage", RuleFinite, "got %v", in.Coverage)
-	}
-	if !(in.Coverage > 0 && in.Coverage < 1) {
-		return inputErr("coverage", RuleProbOpen, "got %v", in.Coverage)
-	}
-	return nil
+	return checkCentral("coverage", in.Coverage)
 }
 
 // Describe says in one line how the prior was made, for a record.

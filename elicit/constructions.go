@@ -142,8 +142,8 @@ func checkInterval(low, high, coverage float64) error {
 			return inputErr(c.field, RuleFinite, "got %v", c.v)
 		}
 	}
-	if !(coverage > 0 && coverage < 1) {
-		return inputErr("coverage", RuleProbOpen, "got %v", coverage)
+	if err := checkCentral("coverage", coverage); err != nil {
+		return err
 	}
 	if !(low > 0 && low < 1) {
 		return inputErr("low", RuleValueInBounds, "%v not inside (0, 1)", low)
@@ -190,11 +190,8 @@ func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgeme
 	if !(highest > best) {
 		return Judgement{}, inputErr("highest", RuleValueIncreasing, "highest %v not above best %v", highest, best)
 	}
-	if math.IsNaN(confidence) || math.IsInf(confidence, 0) {
-		return Judgement{}, inputErr("confidence", RuleFinite, "got %v", confidence)
-	}
-	if !(confidence > 0 && confidence < 1) {
-		return Judgement{}, inputErr("confidence", RuleProbOpen, "got %v", confidence)
+	if err := checkCentral("confidence", confidence); err != nil {
+		return Judgement{}, err
 	}
 	pl, ph := (1-confidence)/2, (1+confidence)/2
 	if !(pl < 0.5 && ph > 0.5 && ph < 1) {
@@ -219,7 +216,7 @@ func fourValueError(err error) error {
 	case strings.HasPrefix(ie.Field, "probs["):
 		// Only the tails can leave [MinProb, 1 − MinProb]: the confidence
 		// is too close to 1.
-		return inputErr("confidence", RuleConfidenceTails, "tails of %v", ie.Detail)
+		return inputErr("confidence", RuleCentralTails, "tails of %v", ie.Detail)
 	case strings.HasPrefix(ie.Field, "values["):
 		names := map[string]string{"values[0]": "lowest", "values[1]": "best", "values[2]": "highest"}
 		if n, ok := names[ie.Field]; ok {

@@ -51,7 +51,13 @@ func (s SuccessCriterion) Validate() error {
 	if s.Direction != DirectionBelow && s.Direction != DirectionAbove {
 		return inputErr("direction", RuleUnknown, "%q: below or above", s.Direction)
 	}
-	return checkOpenProb("confidence", s.Confidence)
+	if err := checkOpenProb("confidence", s.Confidence); err != nil {
+		return err
+	}
+	if !(s.Confidence >= MinProb && s.Confidence <= 1-MinProb) {
+		return inputErr("confidence", RuleProbRange, "got %v", s.Confidence)
+	}
+	return nil
 }
 
 // checkOpenProb checks that v is finite and strictly inside (0, 1).

@@ -99,7 +99,7 @@ func (g SampleSizeGoal) Validate() error {
 	default:
 		return inputErr("interval", RuleUnknown, "%q: equal or hpd", g.Interval)
 	}
-	if err := checkOpenProb("level", g.Level); err != nil {
+	if err := checkCentral("level", g.Level); err != nil {
 		return err
 	}
 	if err := checkOpenProb("length", g.Length); err != nil {

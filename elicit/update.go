@@ -60,18 +60,22 @@ func checkData(prior Beta, successes, trials int) error {
 	return nil
 }
 
-// checkLevel checks a credible level: finite, strictly inside (0, 1), and
-// leaving tails (1 − level)/2 of at least MinProb, the accuracy envelope
-// of quantiles.
-func checkLevel(level float64) error {
-	if math.IsNaN(level) || math.IsInf(level, 0) {
-		return inputErr("level", RuleFinite, "got %v", level)
+// checkLevel checks a credible level (checkCentral).
+func checkLevel(level float64) error { return checkCentral("level", level) }
+
+// checkCentral checks the coverage of a central interval (a credible
+// level, an interval's coverage, a four-value confidence): finite,
+// strictly inside (0, 1), and leaving tails (1 − c)/2 of at least
+// MinProb, the accuracy envelope of quantiles.
+func checkCentral(field string, c float64) error {
+	if math.IsNaN(c) || math.IsInf(c, 0) {
+		return inputErr(field, RuleFinite, "got %v", c)
 	}
-	if !(level > 0 && level < 1) {
-		return inputErr("level", RuleProbOpen, "got %v", level)
+	if !(c > 0 && c < 1) {
+		return inputErr(field, RuleProbOpen, "got %v", c)
 	}
-	if (1-level)/2 < MinProb {
-		return inputErr("level", RuleProbRange, "each tail (1 - level)/2 = %v is below %v", (1-level)/2, MinProb)
+	if (1-c)/2 < MinProb {
+		return inputErr(field, RuleCentralTails, "each tail (1 - %s)/2 = %v is below %v", field, (1-c)/2, MinProb)
 	}
 	return nil
 }

@@ -180,7 +180,7 @@ func comparedWith(field string) string {
 }
 
 // confidenceMaxPercent is the largest confidence the four-value form
-// takes, in percent: 1 − 2e-12 (elicit.RuleConfidenceTails).
+// takes, in percent: 1 − 2e-12 (elicit.RuleCentralTails).
 const confidenceMaxPercent = "99.9999999998"
 
 // answerField is the form field of an elicit field for q's form, or ""
@@ -243,7 +243,7 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 		if ie.Field == "confidence" {
 			return "Must be more than 0% and less than 100%; you typed " + typed + "."
 		}
-	case elicit.RuleConfidenceTails:
+	case elicit.RuleCentralTails:
 		return "Must be at most " + confidenceMaxPercent + "%, which leaves a sliver of chance outside your range; you typed " + typed + "."
 	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
 		return "Type a whole number of chips, such as 3, or leave it empty for none."

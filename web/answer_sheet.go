@@ -262,7 +262,7 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		} else if ie.Field == "counts" {
 			column = strings.Join(mine, ",")
 		}
-		if ie.Field == "confidence" && ie.Rule == elicit.RuleConfidenceTails {
+		if ie.Field == "confidence" && ie.Rule == elicit.RuleCentralTails {
 			return row, sheetErr(line, "confidence", ie.Rule, "in percent, at most "+confidenceMaxPercent)
 		}
 		if ie.Field == "confidence" {

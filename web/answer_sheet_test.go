@@ -161,7 +161,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// A four-value row's judgement rules are named by the sheet's own
 		// columns: its tails belong to the confidence, its values to
 		// lowest, best and highest (not to the columns in sheet order).
-		{"a confidence leaving no tail", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,99.9999999999999,\n", "row 3, column confidence", elicit.RuleConfidenceTails},
+		{"a confidence leaving no tail", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,99.9999999999999,\n", "row 3, column confidence", elicit.RuleCentralTails},
 		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},

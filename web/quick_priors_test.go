@@ -73,6 +73,9 @@ func TestQuickPriorsRefuseBadInput(t *testing.T) {
 		{"construction=mean_sd&c_mean=0.1&c_sd=-1", "c_sd"},
 		{"construction=interval&c_low=0.12&c_high=0.03&c_coverage=0.9", "c_high"},
 		{"construction=interval&c_low=0.03&c_high=0.12&c_coverage=1", "c_coverage"},
+		// Tails of 5.6e-17, beyond the accuracy envelope: refused on the
+		// coverage, not on the high end by the moment match's zero sd.
+		{"construction=interval&c_low=0.03&c_high=0.12&c_coverage=0.9999999999999999", "c_coverage"},
 		{"construction=interval&c_low=0,03&c_high=0.12&c_coverage=0.9", "c_low"},
 		{"construction=interval&c_low=0.03&c_high=1.2&c_coverage=0.9", "c_high"},
 	} {
