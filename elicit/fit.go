@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -12,6 +13,19 @@ import (
 // PoorFitThreshold is the largest probability error |F(xᵢ) − pᵢ| above
 // which a fit is reported as poor (WarnPoorFit).
 const PoorFitThreshold = 0.05
+
+// A stated outer point, one whose tail chance min(p, 1 − p) is at most
+// TailPointMax, is reported as missed (WarnTailMisfit) when the fitted
+// Beta's chance beyond it is more than TailRatioLimit times the stated
+// one or less than 1/TailRatioLimit of it. The absolute rule
+// (PoorFitThreshold) cannot see a tail: at a 95% point no gap exceeds
+// 0.05, however far the Beta falls short of the stated value. The limit
+// of 2, half or double the stated chance, is common practice, no source:
+// a tail chance is read on a ratio scale ("1 in 20" against "1 in 40").
+const (
+	TailRatioLimit = 2
+	TailPointMax   = 0.25
+)
 
 // NearCertaintyESS is the effective sample size α+β above which a fit is
 // reported as implying near-certainty (WarnNearCertainty).
@@ -30,6 +44,11 @@ const (
 	WarnJShaped WarningCode = "j_shaped"
 	// WarnPoorFit: the largest probability error exceeds PoorFitThreshold.
 	WarnPoorFit WarningCode = "poor_fit"
+	// WarnTailMisfit: the fit misses a stated outer point on the ratio
+	// scale of its tail chance (TailRatioLimit), while its largest
+	// probability error is within PoorFitThreshold. Quantile judgements
+	// only: a chip is too coarse a unit for a tail.
+	WarnTailMisfit WarningCode = "tail_misfit"
 	// WarnNearCertainty: α+β exceeds NearCertaintyESS.
 	WarnNearCertainty WarningCode = "near_certainty"
 )
@@ -84,7 +103,63 @@ func FitQuantiles(j Judgement) (Fit, error) {
 	if err != nil {
 		return Fit{}, err
 	}
-	return newFit(ScaledBeta{Beta: d, Lower: j.Lower, Upper: j.Upper}, j.Probs, j.Values, sse, resid), nil
+	f := newFit(ScaledBeta{Beta: d, Lower: j.Lower, Upper: j.Upper}, j.Probs, j.Values, sse, resid)
+	if f.MaxProbError <= PoorFitThreshold {
+		if w, ok := tailWarning(j.Probs, j.Values, resid); ok {
+			f.Warnings = append(f.Warnings, w)
+		}
+	}
+	return f, nil
+}
+
+// tailWarning is WarnTailMisfit for the stated outer point whose fitted
+// tail chance is furthest, as a ratio, from the stated one, if that ratio
+// exceeds TailRatioLimit. resid[i] is F(values[i]) − probs[i].
+func tailWarning(probs, values, resid []float64) (Warning, bool) {
+	worst, at := 0.0, -1
+	var stated, fitted float64
+	for i, p := range probs {
+		ts, tf := p, p+resid[i] // the lower tail below values[i]
+		if p > 0.5 {
+			ts, tf = 1-p, (1-p)-resid[i] // the upper tail above it
+		}
+		if !(ts > 0 && ts <= TailPointMax) || p == 0.5 {
+			continue
+		}
+		r := math.Inf(1)
+		if tf > 0 {
+			r = math.Max(tf/ts, ts/tf)
+		}
+		if r > worst {
+			worst, at, stated, fitted = r, i, ts, math.Max(tf, 0)
+		}
+	}
+	if at < 0 || !(worst > TailRatioLimit) {
+		return Warning{}, false
+	}
+	side, how := "below", "less"
+	if probs[at] > 0.5 {
+		side = "above"
+	}
+	if fitted > stated {
+		how = "more"
+	}
+	times := "about " + strconv.FormatFloat(worst, 'f', 0, 64) + " times"
+	switch {
+	case worst >= 1000:
+		times = "over 1000 times"
+	case worst < 10:
+		times = "about " + strconv.FormatFloat(worst, 'f', 1, 64) + " times"
+	}
+	pct := func(p float64) string {
+		if p < 1e-6 {
+			return "almost none (under 0.0001%)"
+		}
+		return strconv.FormatFloat(100*p, 'g', 3, 64) + "%"
+	}
+	return Warning{WarnTailMisfit, fmt.Sprintf(
+		"The fitted Beta puts %s of the chance %s %.4g, where the expert put %s: %s %s (the limit is %g times either way). The probability gap looks small, but the curve does not reach as far as the expert's outer value. Show the expert the fit and ask whether they want to revise.",
+		pct(fitted), side, values[at], pct(stated), times, how, float64(TailRatioLimit))}, true
 }
 
 // newFit fills in the report of a fit at the solution d, whose residuals

@@ -6,6 +6,7 @@ import (
 	"math"
 	"math/rand/v2"
 	"sort"
+	"strings"
 	"testing"
 )
 
@@ -114,6 +115,11 @@ func TestFitWarnings(t *testing.T) {
 		{"j shaped high", Judgement{[]float64{0.1, 0.5, 0.9}, []float64{0.85, 0.98, 0.999}, 0, 1}, []WarningCode{WarnJShaped}},
 		{"near certainty", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.28, 0.30, 0.32}, 0, 1}, []WarningCode{WarnNearCertainty}},
 		{"poor fit", Judgement{[]float64{0.25, 0.5, 0.75}, []float64{0.1, 0.11, 0.9}, 0, 1}, []WarningCode{WarnUShaped, WarnPoorFit}},
+		// The 95% value is four times the median: no Beta through the 5%
+		// value and the median reaches it, and its gap of 0.04996 is
+		// within PoorFitThreshold, but the fitted chance above 0.2 is
+		// about 4e-5 where the expert said 5%.
+		{"outer value out of reach", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.02, 0.05, 0.2}, 0, 1}, []WarningCode{WarnTailMisfit}},
 	}
 	for _, c := range cases {
 		f, err := FitQuantiles(c.j)
@@ -128,6 +134,53 @@ func TestFitWarnings(t *testing.T) {
 			if !got[w] {
 				t.Errorf("%s: missing warning %s in %v", c.name, w, f.Warnings)
 			}
+		}
+	}
+}
+
+// TestTailWarningRule checks the tail rule's threshold and sides directly:
+// a fitted tail chance of half or double the stated one passes, beyond
+// that it is reported, on either side, for outer points only (a tail
+// chance of at most TailPointMax).
+func TestTailWarningRule(t *testing.T) {
+	probs, values := []float64{0.05, 0.5, 0.95}, []float64{0.1, 0.2, 0.3}
+	cases := []struct {
+		name  string
+		resid []float64
+		warn  bool
+		words string
+	}{
+		{"exact", []float64{0, 0, 0}, false, ""},
+		{"lower tail halved", []float64{-0.025, 0, 0}, false, ""},
+		{"lower tail under half", []float64{-0.0251, 0, 0}, true, "below 0.1, where the expert put 5%: about 2.0 times less"},
+		{"lower tail doubled", []float64{0.05, 0, 0}, false, ""},
+		{"lower tail over double", []float64{0.0501, 0, 0}, true, "more"},
+		{"upper tail under half", []float64{0, 0, 0.0251}, true, "above 0.3"},
+		{"upper tail gone", []float64{0, 0, 0.05}, true, "almost none (under 0.0001%) of the chance above 0.3, where the expert put 5%: over 1000 times less"},
+		{"median off by a ratio", []float64{0, 0.3, 0}, false, ""},
+	}
+	for _, c := range cases {
+		w, ok := tailWarning(probs, values, c.resid)
+		if ok != c.warn || (ok && (w.Code != WarnTailMisfit || !strings.Contains(w.Message, c.words))) {
+			t.Errorf("%s: %v %q", c.name, ok, w.Message)
+		}
+	}
+	// An outer point means a tail chance of at most TailPointMax: a
+	// quartile (0.25) is one, a 30% point is not.
+	if _, ok := tailWarning([]float64{0.25, 0.75}, []float64{0.1, 0.3}, []float64{-0.2, 0}); !ok {
+		t.Error("a quartile whose fitted tail is a fifth of the stated one is not reported")
+	}
+	if _, ok := tailWarning([]float64{0.3, 0.7}, []float64{0.1, 0.3}, []float64{-0.2, 0}); ok {
+		t.Error("a 30% point is reported as an outer point")
+	}
+	// Chips: the fit of a histogram carries no tail rule.
+	f, err := FitChips([]float64{0, 0.1, 0.2, 0.3, 0.5, 1}, []int{1, 0, 1, 0, 18})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, w := range f.Warnings {
+		if w.Code == WarnTailMisfit {
+			t.Errorf("chips fit carries %v", w)
 		}
 	}
 }

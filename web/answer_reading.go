@@ -331,6 +331,8 @@ func expertWarnings(q workshop.Question, fit elicit.Fit) []string {
 			out = append(out, "The curve that fits your numbers is highest right at "+end+": it says values at the very edge are the most likely. If you expect the value to sit a little away from "+end+", adjust your values.")
 		case elicit.WarnPoorFit:
 			out = append(out, "No curve of this kind matches all your numbers closely; the sentences above show how far it is from each. You may want to adjust one of them.")
+		case elicit.WarnTailMisfit:
+			out = append(out, "The curve does not match how far out one of your outer values lies: the sentences above show the chance it gives beyond each. You may want to adjust your values.")
 		case elicit.WarnNearCertainty:
 			out = append(out, "Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.")
 		default:

@@ -750,3 +750,21 @@ func regexpFind(body, re string) string {
 func wideOnly(body string) string {
 	return regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-compact".*?</svg>`).ReplaceAllString(body, "")
 }
+
+// An outer value the curve cannot reach is pointed out to the expert in
+// their words, though its probability gap (0.04996 at the 95% value) is
+// within the poor-fit limit; an ordinary judgement gets no such line.
+func TestExpertToldWhenTheCurveMissesAnOuterValue(t *testing.T) {
+	g := newExpertRig(t)
+	const line = "The curve does not match how far out one of your outer values lies"
+	resp, body := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.02", "0.05", "0.2"))
+	if resp.StatusCode != http.StatusOK || !strings.Contains(body, line) {
+		t.Errorf("0.02/0.05/0.2: status %d, no line about the outer value", resp.StatusCode)
+	}
+	if strings.Contains(body, "tail_misfit") || strings.Contains(body, "the limit is 2 times") {
+		t.Error("the expert sees the facilitator's wording")
+	}
+	if _, body := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.01", "0.04", "0.12")); strings.Contains(body, line) {
+		t.Error("an ordinary judgement is told its curve misses an outer value")
+	}
+}
