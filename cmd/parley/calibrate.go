@@ -12,6 +12,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 func init() {
@@ -162,12 +163,14 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 			return nil, &elicit.InputError{Field: field("columns"), Rule: elicit.RuleCount,
 				Detail: fmt.Sprintf("%d fields, the header has %d", len(rec), len(cols))}
 		}
-		a := elicit.SeedAssessment{Expert: cell(0), Question: cell(1), Probs: probs, Quantiles: make([]float64, len(probs))}
-		if a.Expert == "" {
-			return nil, &elicit.InputError{Field: field("expert"), Rule: elicit.RuleRequired}
+		// Names are printed back to the terminal: the text rule keeps
+		// control characters (an ESC sequence, NUL) and broken UTF-8 out.
+		a := elicit.SeedAssessment{Probs: probs, Quantiles: make([]float64, len(probs))}
+		if a.Expert, err = input.Text(field("expert"), cell(0), input.MaxShortText, true); err != nil {
+			return nil, err
 		}
-		if a.Question == "" {
-			return nil, &elicit.InputError{Field: field("question"), Rule: elicit.RuleRequired}
+		if a.Question, err = input.Text(field("question"), cell(1), input.MaxShortText, true); err != nil {
+			return nil, err
 		}
 		x, err := number(field(cols[2]), cell(2))
 		if err != nil {

@@ -6,6 +6,8 @@ import (
 	"os"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // fuzzSeedsPath is the invented inverter example shipped with Parley.
@@ -60,6 +62,14 @@ func FuzzCalibrateCSV(f *testing.F) {
 	} {
 		f.Add(seed, false, false)
 	}
+	// Names reach the text table: these are refused, not printed.
+	for _, seed := range []string{
+		header + "A\x1b[31mRED,x,0.5,0.1,0.4,0.9\nB,x,0.5,0.2,0.4,0.8\n", // ESC sequence in a name
+		header + "A,x\x00,0.5,0.1,0.4,0.9\nB,x\x00,0.5,0.2,0.4,0.8\n",    // NUL in a name
+		header + "\xff,x,0.5,0.1,0.4,0.9\nB,x,0.5,0.2,0.4,0.8\n",         // not UTF-8
+	} {
+		f.Add(seed, true, false)
+	}
 	f.Add(v, true, false)
 	f.Add(v, false, true)
 
@@ -84,8 +94,11 @@ func FuzzCalibrateCSV(f *testing.F) {
 			if !text && !json.Valid(stdout.Bytes()) {
 				t.Errorf("status 0 but stdout is not valid JSON:\n%s", stdout.String())
 			}
-			if text && strings.Contains(stdout.String(), "NaN") {
-				t.Errorf("status 0 but the table shows NaN:\n%s", stdout.String())
+			if text && (strings.Contains(stdout.String(), "NaN") || strings.Contains(stdout.String(), "Inf")) {
+				t.Errorf("status 0 but the table shows NaN or Inf:\n%s", stdout.String())
+			}
+			if err := input.CheckChars("stdout", stdout.String()); text && err != nil {
+				t.Errorf("status 0 but the table is not plain text (%v):\n%q", err, stdout.String())
 			}
 		case exitBadInput:
 			if stdout.Len() != 0 {

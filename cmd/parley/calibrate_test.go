@@ -10,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 const inverterSeeds = "../../testdata/calibration/inverter_seeds.csv"
@@ -208,6 +209,51 @@ func TestCalibrateBadInput(t *testing.T) {
 				t.Errorf("%s: stderr %q lacks %q", c.name, errOut, w)
 			}
 		}
+	}
+}
+
+// TestCalibrateNamesFollowTheTextRule: expert and question names are
+// printed back, so they meet the text rule of every other name (review 3,
+// finding 7: an ESC sequence reached the terminal, a NUL stdout).
+func TestCalibrateNamesFollowTheTextRule(t *testing.T) {
+	const head = "expert,question,realization,q05,q50,q95\n"
+	long := strings.Repeat("é", input.MaxShortText+1)
+	for _, c := range []struct {
+		name, value, rule, detail string
+	}{
+		{"NUL", "A\x00", string(input.RuleTextValid), "U+0000"},
+		{"ESC sequence", "A\x1b[31mRED", string(input.RuleTextValid), "U+001B"},
+		{"C1 control", "A\u0085B", string(input.RuleTextValid), "U+0085"},
+		{"DEL", "A\x7f", string(input.RuleTextValid), "U+007F"},
+		{"invalid UTF-8", "\xff", string(input.RuleTextValid), "not UTF-8"},
+		{"201 characters", long, string(input.RuleTooLong), "got 201"},
+		{"blank", "  ", string(elicit.RuleRequired), ""},
+	} {
+		for col, row := range map[string]string{
+			"expert":   c.value + ",q1,0.5,0.1,0.4,0.9\n",
+			"question": "A," + c.value + ",0.5,0.1,0.4,0.9\n",
+		} {
+			for _, format := range []string{"text", "json"} {
+				code, out, errOut := runCLI(t, head+"B,q0,0.5,0.1,0.4,0.9\n"+row, "calibrate", "--input", "-", "--format", format)
+				if code != exitBadInput || out != "" {
+					t.Errorf("%s in %s (%s): exit %d, stdout %q; want 2 and nothing", c.name, col, format, code, out)
+				}
+				for _, w := range []string{"row 3: " + col + ": " + c.rule, c.detail} {
+					if !strings.Contains(errOut, w) {
+						t.Errorf("%s in %s (%s): stderr %q lacks %q", c.name, col, format, errOut, w)
+					}
+				}
+				if strings.Count(errOut, "\n") != 1 || strings.ContainsAny(errOut, "\x00\x1b\x7f") {
+					t.Errorf("%s in %s (%s): stderr %q is not one plain line", c.name, col, format, errOut)
+				}
+			}
+		}
+	}
+	// At the limit, 200 letters of two bytes each, the name is taken.
+	at := strings.Repeat("é", input.MaxShortText)
+	code, out, errOut := runCLI(t, head+at+",q1,0.5,0.1,0.4,0.9\nB,q1,0.5,0.2,0.45,0.8\n", "calibrate", "--input", "-", "--format", "json")
+	if code != exitOK || !strings.Contains(out, at) {
+		t.Errorf("a name of %d characters: exit %d, stderr %q", input.MaxShortText, code, errOut)
 	}
 }
 
