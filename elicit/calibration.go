@@ -19,6 +19,15 @@ const (
 	RuleInRange         Rule = "must lie within [lower, upper]"
 	RuleAlphaTooHigh    Rule = "must not exceed the highest calibration score"
 	RuleNoScoredExperts Rule = "no expert has a calibration × information score above 0"
+	// RuleQuantilesTooClose is the calibration quantiles' form of
+	// RuleValuesTooClose: without bounds, the gap is measured against
+	// the values' own size (MinValueGap).
+	RuleQuantilesTooClose Rule = "is too close to the quantile before it to be told apart (they must differ by at least a millionth of the larger one's size)"
+	// RuleRangeCollapsed is broken when widening a question's range by
+	// the overshoot leaves it, after rounding, no wider than the
+	// quantiles and realisation: a quantile on the range's edge gives an
+	// infinite information score.
+	RuleRangeCollapsed Rule = "the question's range, widened by the overshoot, must strictly contain every quantile and the realisation"
 )
 
 // DefaultOvershoot is the k of the intrinsic range: the range spanned by
@@ -74,6 +83,24 @@ func (a SeedAssessment) validateQuantiles() error {
 		}
 		if i > 0 && !(q > a.Quantiles[i-1]) {
 			return inputErr(fmt.Sprintf("quantiles[%d]", i), RuleValueIncreasing, "%v after %v", q, a.Quantiles[i-1])
+		}
+	}
+	return nil
+}
+
+// checkQuantileGaps applies the idea of RuleValuesTooClose to the
+// quantiles of a question without bounds, where no distance to a bound
+// exists: consecutive quantiles must be at least MinValueGap of the
+// larger one's size apart. Quantiles a few ulps apart widen into a range
+// that rounds back onto them (review 3: 5, 5.000000000000001,
+// 5.000000000000002 scored +Inf and NaN). A question with bounds is
+// asked as a judgement on them, and Judgement.Validate has held its
+// answers to the bounded rule.
+func checkQuantileGaps(field string, qs []float64) error {
+	for i := 1; i < len(qs); i++ {
+		q, prev := qs[i], qs[i-1]
+		if q-prev < MinValueGap*math.Max(math.Abs(q), math.Abs(prev)) {
+			return inputErr(fmt.Sprintf("%s[%d]", field, i), RuleQuantilesTooClose, "%v after %v", q, prev)
 		}
 	}
 	return nil
@@ -309,6 +336,11 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 	}
 	for _, i := range rows {
 		a := as[i]
+		if !bounded {
+			if err := checkQuantileGaps(fmt.Sprintf("assessments[%d].quantiles", i), a.Quantiles); err != nil {
+				return seedQuestion{}, err
+			}
+		}
 		if bounded {
 			for j, v := range a.Quantiles {
 				if !(v > b[0] && v < b[1]) {
@@ -325,6 +357,10 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 	q.lo, q.hi = intrinsicRange(lo, hi, k)
 	if math.IsInf(q.lo, 0) || math.IsInf(q.hi, 0) || !(q.hi-q.lo < math.Inf(1)) {
 		return seedQuestion{}, inputErr("overshoot", RuleRangeOverflow, "question %q: [%v, %v] widened by %v", name, lo, hi, k)
+	}
+	if !(q.lo < lo && q.hi > hi) {
+		return seedQuestion{}, inputErr(fmt.Sprintf("questions[%q]", name), RuleRangeCollapsed,
+			"[%v, %v] widened by %v gives [%v, %v]", lo, hi, k, q.lo, q.hi)
 	}
 	if bounded {
 		q.lo, q.hi = math.Max(q.lo, b[0]), math.Min(q.hi, b[1])
@@ -632,8 +668,11 @@ func InformationScore(quantiles, probs []float64, lower, upper float64) (float64
 	return information(quantiles, binProbs(probs), lower, upper), nil
 }
 
+// information is InformationScore on validated input. Each term is a sum
+// of logarithms: the ratio width/(next − prev) itself overflows when a
+// range near ±1e300 holds a bin near 1e-290 wide.
 func information(q, binP []float64, lo, hi float64) float64 {
-	width := hi - lo
+	logWidth := math.Log(hi - lo)
 	sum := 0.0
 	prev := lo
 	for j, p := range binP {
@@ -641,7 +680,7 @@ func information(q, binP []float64, lo, hi float64) float64 {
 		if j < len(q) {
 			next = q[j]
 		}
-		sum += p * math.Log(p*width/(next-prev))
+		sum += p * (math.Log(p) + logWidth - math.Log(next-prev))
 		prev = next
 	}
 	return sum

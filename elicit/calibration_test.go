@@ -633,6 +633,15 @@ func TestClassicalModelBadInput(t *testing.T) {
 			o.Overshoot = neg
 			return as
 		}, "overshoot", RuleNonNegative},
+		// Review 3: quantiles a few ulps apart scored +Inf and NaN.
+		{"quantiles adjacent floats", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, _ *ModelOptions) []SeedAssessment {
+			as[2].Quantiles = []float64{5, 5.000000000000001, 5.000000000000002}
+			return as
+		}, "assessments[2].quantiles[1]", RuleQuantilesTooClose},
+		{"overshoot too small to widen", func(as []SeedAssessment, _ map[string]float64, _ *map[string][2]float64, o *ModelOptions) []SeedAssessment {
+			o.Overshoot = 1e-300
+			return as
+		}, `questions["q1"]`, RuleRangeCollapsed},
 	} {
 		as, real, b := good()
 		var o ModelOptions
@@ -719,5 +728,74 @@ func TestNoScoredExperts(t *testing.T) {
 	}
 	if _, err := ClassicalModel(onlyE, real, nil, ModelOptions{}); !calHasRule(err, RuleNoScoredExperts) {
 		t.Errorf("got %v, want %q", err, RuleNoScoredExperts)
+	}
+}
+
+// TestQuantileGap: consecutive quantiles of a question without bounds
+// must be at least MinValueGap of the larger one's size apart. At 1e6 a
+// gap of 1 is just short of 1e-6 × (1e6 + 1), a gap of 2 is enough. With
+// bounds, the judgement's own rule has applied; close quantiles far from
+// 0 on a narrow range are scored.
+func TestQuantileGap(t *testing.T) {
+	for _, c := range []struct {
+		q    []float64
+		want Rule // "" for accepted
+	}{
+		{[]float64{1e6, 1e6 + 1, 1e6 + 3}, RuleQuantilesTooClose},
+		{[]float64{1e6, 1e6 + 2, 1e6 + 4}, ""},
+		{[]float64{-1, 0, 1}, ""},
+		{[]float64{0, 1e-300, 2e-300}, ""},
+		{[]float64{-5.000000000000002, -5.000000000000001, 0}, RuleQuantilesTooClose},
+	} {
+		as := []SeedAssessment{{Expert: "A", Question: "q", Probs: seedProbs, Quantiles: c.q}}
+		_, err := ClassicalModel(as, map[string]float64{"q": c.q[1]}, nil, ModelOptions{})
+		switch {
+		case c.want == "" && err != nil:
+			t.Errorf("%v: %v, want accepted", c.q, err)
+		case c.want != "" && !calHasRule(err, c.want):
+			t.Errorf("%v: %v, want %q", c.q, err, c.want)
+		}
+	}
+	narrow := []SeedAssessment{
+		{Expert: "A", Question: "q", Probs: seedProbs, Quantiles: []float64{1e6 + 2, 1e6 + 2.5, 1e6 + 3}},
+		{Expert: "B", Question: "q", Probs: seedProbs, Quantiles: []float64{1e6 + 1, 1e6 + 4, 1e6 + 8}},
+	}
+	if _, err := ClassicalModel(narrow, map[string]float64{"q": 1e6 + 3.5}, map[string][2]float64{"q": {1e6, 1e6 + 10}}, ModelOptions{}); err != nil {
+		t.Errorf("bounded [1e6, 1e6 + 10]: %v", err)
+	}
+}
+
+// TestRangeCollapsed: one quantile equal to the realisation spans no
+// range, and no overshoot widens it; the question is refused, not scored
+// as log(0).
+func TestRangeCollapsed(t *testing.T) {
+	as := []SeedAssessment{
+		{Expert: "A", Question: "q", Probs: []float64{0.5}, Quantiles: []float64{5}},
+		{Expert: "B", Question: "q", Probs: []float64{0.5}, Quantiles: []float64{5}},
+	}
+	_, err := ClassicalModel(as, map[string]float64{"q": 5}, nil, ModelOptions{})
+	var ie *InputError
+	if !errors.As(err, &ie) || ie.Rule != RuleRangeCollapsed || ie.Field != `questions["q"]` {
+		t.Fatalf("got %v, want questions[\"q\"] and %q", err, RuleRangeCollapsed)
+	}
+}
+
+// TestInformationExtremeScales: bins 1e-290 wide on a range 2.2e300
+// wide. Cooke's formula (1991, §12.4), worked by hand on
+// quantiles 1e-290, 2e-290, 3e-290 and [L*, U*] = [−1.1e300, 1.1e300]:
+// the outer bins are 1.1e300 wide (1e-290 is lost in the rounding), so
+//
+//	I = 2 · 0.05 ln(0.05 · 2.2e300 / 1.1e300) + 2 · 0.45 ln(0.45 · 2.2e300 / 1e-290)
+//	  = 0.1 ln 0.1 + 0.9 (ln 0.99 + 590 ln 10).
+//
+// Formed as one ratio, 0.99e300 / 1e-290 overflows to +Inf.
+func TestInformationExtremeScales(t *testing.T) {
+	got, err := InformationScore([]float64{1e-290, 2e-290, 3e-290}, seedProbs, -1.1e300, 1.1e300)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := 0.1*math.Log(0.1) + 0.9*(math.Log(0.99)+590*math.Log(10))
+	if math.IsInf(got, 0) || math.Abs(got-want) > 1e-12*want {
+		t.Errorf("information %v, want %v", got, want)
 	}
 }

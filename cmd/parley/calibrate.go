@@ -78,18 +78,58 @@ func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int 
 		}
 		rob = &r
 	}
-	if *format == "json" {
-		err = writeJSON(stdout, calibrateOutput{Scores: s, LeaveOneOut: rob})
-	} else {
-		err = writeScoresTable(stdout, s, opt.Alpha == nil)
-		if err == nil && rob != nil {
-			err = writeLeaveOneOut(stdout, *rob)
-		}
-	}
-	if err != nil {
+	if err := writeCalibration(stdout, *format, s, rob, opt.Alpha == nil); err != nil {
 		return fail(stderr, "calibrate", err)
 	}
 	return exitOK
+}
+
+// writeCalibration prints the scores (and the leave-one-out report when
+// rob is not nil) as text or JSON. As a last defence it prints nothing
+// when any number is NaN or ±Inf: the text would show it to the reader,
+// and JSON has no literal for it.
+func writeCalibration(w io.Writer, format string, s elicit.Scores, rob *elicit.LeaveOneOutReport, optimised bool) error {
+	if !finite(calibrationNumbers(s, rob)...) {
+		return errors.New("the calibration produced a non-finite number; nothing printed")
+	}
+	if format == "json" {
+		return writeJSON(w, calibrateOutput{Scores: s, LeaveOneOut: rob})
+	}
+	if err := writeScoresTable(w, s, optimised); err != nil {
+		return err
+	}
+	if rob != nil {
+		return writeLeaveOneOut(w, *rob)
+	}
+	return nil
+}
+
+// calibrationNumbers lists every number the scores and the report print.
+func calibrationNumbers(s elicit.Scores, rob *elicit.LeaveOneOutReport) []float64 {
+	nums := append([]float64{s.Alpha, s.Overshoot, s.Pooled.Calibration, s.Pooled.Information, s.Pooled.Combined}, s.Probs...)
+	for _, e := range s.Experts {
+		nums = append(nums, e.Calibration, e.Information, e.Combined, e.Weight)
+	}
+	for _, q := range s.Questions {
+		nums = append(append(nums, q.Realisation, q.Lower, q.Upper), q.Pooled...)
+	}
+	if rob == nil {
+		return nums
+	}
+	nums = append(nums, rob.MaxShift)
+	for _, f := range rob.Full {
+		nums = append(nums, f...)
+	}
+	for _, c := range rob.Cases {
+		nums = append(append(nums, c.Alpha, c.Shift), c.Shifts...)
+		for _, w := range c.Weights {
+			nums = append(nums, w)
+		}
+		for _, p := range c.Percentiles {
+			nums = append(nums, p...)
+		}
+	}
+	return nums
 }
 
 // calibrateOutput is the JSON output: the scores' keys (alpha, probs,
@@ -106,6 +146,7 @@ type seedCSV struct {
 	assessments  []elicit.SeedAssessment
 	realisations map[string]float64
 	rows         []int
+	qcols        []string // the quantile columns' names
 }
 
 // quantileColumn is a qNN header: the probability 0.NN, e.g. q05 → 0.05,
@@ -140,7 +181,7 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	if err != nil {
 		return nil, err
 	}
-	out := &seedCSV{realisations: map[string]float64{}}
+	out := &seedCSV{realisations: map[string]float64{}, qcols: cols[3:]}
 	realRow := map[string]int{}
 	seen := map[[2]string]int{}
 	for {
@@ -289,18 +330,24 @@ func renameQuantiles(err error, row string, qcols []string) error {
 }
 
 // rowError replaces an assessments[i] field in an error of the classical
-// model by the CSV row it came from.
+// model by the CSV row it came from, and quantiles[j] by its column:
+// assessments[0].quantiles[1] is "row 2: q50".
 func (s *seedCSV) rowError(err error) error {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
 		return err
 	}
-	for i := len(s.rows) - 1; i >= 0; i-- {
+	for i, row := range s.rows {
 		p := fmt.Sprintf("assessments[%d]", i)
-		if strings.HasPrefix(ie.Field, p) {
+		if ie.Field == p {
 			c := *ie
-			c.Field = fmt.Sprintf("row %d", s.rows[i]) + strings.TrimPrefix(ie.Field, p)
+			c.Field = fmt.Sprintf("row %d", row)
 			return &c
+		}
+		if rest, ok := strings.CutPrefix(ie.Field, p+"."); ok {
+			c := *ie
+			c.Field = rest
+			return renameQuantiles(&c, fmt.Sprintf("row %d", row), s.qcols)
 		}
 	}
 	return err

@@ -163,6 +163,7 @@ func TestCalibrateExtraQuantiles(t *testing.T) {
 
 func TestCalibrateBadInput(t *testing.T) {
 	const head = "expert,question,realization,q05,q50,q95\n"
+	const adjacent = "A,q1,5,5,5.000000000000001,5.000000000000002\nB,q1,5,5,5.000000000000001,5.000000000000002\n"
 	for _, c := range []struct {
 		name string
 		csv  string
@@ -193,6 +194,11 @@ func TestCalibrateBadInput(t *testing.T) {
 		// and were reported as "every calibration score is 0".
 		{"quantiles overflow the range", head + "A,s1,1,-1.7e308,0,1.7e308\nB,s1,1,0,1,2\n", nil, []string{"row 2", "q05", string(elicit.RuleBoundsRange)}},
 		{"realization too large", head + "A,s1,1e301,0,1,2\n", nil, []string{"row 2", "realization", string(elicit.RuleBoundsRange)}},
+		// Review 3, finding 2: adjacent floats printed +Inf and NaN with
+		// exit 0 (text) and failed with exit 1 (JSON).
+		{"adjacent floats", head + adjacent, nil, []string{"row 2: q50: " + string(elicit.RuleQuantilesTooClose)}},
+		{"adjacent floats as JSON", head + adjacent, []string{"--format", "json"}, []string{"row 2: q50: " + string(elicit.RuleQuantilesTooClose)}},
+		{"overshoot too small to widen", head + "A,s1,1,0,1,2\n", []string{"--overshoot", "1e-300"}, []string{`questions["s1"]: ` + string(elicit.RuleRangeCollapsed)}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -209,6 +215,53 @@ func TestCalibrateBadInput(t *testing.T) {
 				t.Errorf("%s: stderr %q lacks %q", c.name, errOut, w)
 			}
 		}
+	}
+}
+
+// TestCalibrateWriterRefusesNonFinite: the last defence behind the input
+// rules. A score that is NaN or ±Inf prints nothing, in either format, and
+// is a failure (exit 1), not bad input.
+func TestCalibrateWriterRefusesNonFinite(t *testing.T) {
+	seeds, err := readSeedCSV(strings.NewReader("expert,question,realization,q05,q50,q95\nA,q1,3,2,5,8\nB,q1,3,4,5,6\n"))
+	if err != nil {
+		t.Fatal(err)
+	}
+	good, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, nil, elicit.ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	rob, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, nil, elicit.ModelOptions{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	breaks := map[string]func(s *elicit.Scores, r *elicit.LeaveOneOutReport){
+		"information +Inf": func(s *elicit.Scores, _ *elicit.LeaveOneOutReport) { s.Experts[0].Information = math.Inf(1) },
+		"weight NaN":       func(s *elicit.Scores, _ *elicit.LeaveOneOutReport) { s.Experts[1].Weight = math.NaN() },
+		"pooled −Inf":      func(s *elicit.Scores, _ *elicit.LeaveOneOutReport) { s.Pooled.Information = math.Inf(-1) },
+		"range NaN":        func(s *elicit.Scores, _ *elicit.LeaveOneOutReport) { s.Questions[0].Upper = math.NaN() },
+		"shift NaN":        func(_ *elicit.Scores, r *elicit.LeaveOneOutReport) { r.MaxShift = math.NaN() },
+	}
+	for name, brk := range breaks {
+		for _, format := range []string{"text", "json"} {
+			s := good
+			s.Experts = append([]elicit.ExpertScore(nil), good.Experts...)
+			s.Questions = append([]elicit.SeedResult(nil), good.Questions...)
+			r := rob
+			brk(&s, &r)
+			var out, errOut bytes.Buffer
+			err := writeCalibration(&out, format, s, &r, true)
+			if err == nil || !strings.Contains(err.Error(), "non-finite number; nothing printed") || out.Len() != 0 {
+				t.Errorf("%s (%s): error %v, stdout %q", name, format, err, out.String())
+				continue
+			}
+			if code := fail(&errOut, "calibrate", err); code != exitFailure {
+				t.Errorf("%s (%s): exit %d, want %d", name, format, code, exitFailure)
+			}
+		}
+	}
+	var out bytes.Buffer
+	if err := writeCalibration(&out, "text", good, &rob, true); err != nil || out.Len() == 0 {
+		t.Errorf("finite scores: error %v, %d bytes printed", err, out.Len())
 	}
 }
 
