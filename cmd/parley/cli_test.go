@@ -12,6 +12,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // runCLI calls dispatch in-process and returns the exit status and outputs.
@@ -230,7 +231,19 @@ func TestScriptingBadInput(t *testing.T) {
 		{"pool unknown expert field", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"mean":0.4}]}`, []string{"mean", string(ruleJSONField)}},
 		{"pool bad JSON", []string{"pool"}, `{"experts":[`, []string{"stdin", string(ruleJSONSyntax)}},
 		{"pool trailing data", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}]} {}`, []string{"stdin", string(ruleJSONSyntax)}},
-		{"pool string number", []string{"pool"}, `{"experts":[{"alpha":"2","beta":3}]}`, []string{"alpha", string(ruleJSONType)}},
+		{"pool string number", []string{"pool"}, `{"experts":[{"alpha":"2","beta":3}]}`, []string{"experts[0].alpha: " + string(ruleJSONType), "got string, want number"}},
+		// Review 3, finding 6: encoding/json keeps the last of a repeated
+		// key and matches keys in any letter case; both were taken silently.
+		{"pool repeated key", []string{"pool"}, `{"experts":[{"alpha":2,"beta":30,"weight":1,"alpha":3}],"probs":[0.5]}`, []string{"experts[0].alpha: " + string(input.RuleDuplicateKey)}},
+		{"pool repeated top key", []string{"pool"}, `{"experts":[{"alpha":2,"beta":30}],"probs":[0.5],"probs":[0.25]}`, []string{"probs: " + string(input.RuleDuplicateKey)}},
+		{"pool key in capitals", []string{"pool"}, `{"experts":[{"Alpha":2,"beta":30}]}`, []string{"experts[0].Alpha: " + string(input.RuleKeySpelling), `"alpha", not "Alpha"`}},
+		{"pool keys differing in case", []string{"pool"}, `{"experts":[{"alpha":2,"beta":30}],"Method":"log","method":"linear"}`, []string{"Method: " + string(input.RuleKeySpelling)}},
+		{"pool long s", []string{"pool"}, "{\"expert\u017f\":[{\"alpha\":2,\"beta\":30}]}", []string{"expert\u017f: " + string(input.RuleKeySpelling)}},
+		{"pool wrong type in the second expert", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3},{"alpha":2,"beta":true}]}`, []string{"experts[1].beta: " + string(ruleJSONType), "got true or false, want number"}},
+		{"pool wrong type in a list", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[0.5,"0.9"]}`, []string{"probs[1]: " + string(ruleJSONType)}},
+		{"pool array for the object", []string{"pool"}, `[]`, []string{"stdin: " + string(ruleJSONType), "got array, want object"}},
+		{"pool number beyond float64", []string{"pool"}, `{"experts":[{"alpha":1e400,"beta":3}]}`, []string{"experts[0].alpha: " + string(elicit.RuleFinite), "1e400"}},
+		{"pool control character in a string", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"method":"lo\u001bg"}`, []string{"method: " + string(input.RuleTextValid)}},
 		{"pool NaN literal", []string{"pool"}, `{"experts":[{"alpha":NaN,"beta":3}]}`, []string{"stdin", string(ruleJSONSyntax)}},
 		{"pool no experts", []string{"pool"}, `{"experts":[]}`, []string{"experts", string(elicit.RuleCount)}},
 		{"pool missing beta", []string{"pool"}, `{"experts":[{"alpha":2}]}`, []string{"experts[0].beta", string(elicit.RuleRequired)}},
@@ -275,6 +288,9 @@ func TestScriptingBadInput(t *testing.T) {
 					t.Errorf("stderr %q does not contain %q", errOut, w)
 				}
 			}
+			if strings.Contains(errOut, "main.") || strings.Contains(errOut, "float64") {
+				t.Errorf("stderr %q names a Go type", errOut)
+			}
 		})
 	}
 }
@@ -293,6 +309,7 @@ func TestScriptingBinary(t *testing.T) {
 	}{
 		{[]string{"update", "--alpha", "2", "--beta", "38", "--successes", "51", "--trials", "50"}, "", 2, "successes: " + string(elicit.RuleCountRange)},
 		{[]string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"colour":"red"}`, 2, "colour: " + string(ruleJSONField)},
+		{[]string{"pool"}, `{"experts":[{"alpha":2,"beta":30,"weight":1,"alpha":3}]}`, 2, "experts[0].alpha: " + string(input.RuleDuplicateKey)},
 		{[]string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,Inf"}, "", 2, "values[2]"},
 		{[]string{"update", "--alpha", "2", "--beta", "38", "--successes", "3", "--trials", "50", "--format", "json"}, "", 0, `"hdi"`},
 	}

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"reflect"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -109,7 +110,16 @@ func runPool(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
+// poolLayout is how input.ScanJSON reads the pool's JSON.
+var poolLayout = input.JSONLayout{
+	Type: reflect.TypeFor[poolInput](), Whole: "stdin",
+	Syntax: ruleJSONSyntax, Unknown: ruleJSONField, WrongType: ruleJSONType,
+}
+
 // readPoolInput decodes exactly one JSON object with only known fields.
+// The scan before decoding refuses what encoding/json would take silently
+// (a repeated key, whose last value would win; a key in another letter
+// case) and names each refusal by its path, as experts[0].alpha.
 func readPoolInput(r io.Reader) (poolInput, error) {
 	data, err := io.ReadAll(io.LimitReader(r, maxPoolInput+1))
 	if err != nil {
@@ -117,6 +127,9 @@ func readPoolInput(r io.Reader) (poolInput, error) {
 	}
 	if len(data) > maxPoolInput {
 		return poolInput{}, &elicit.InputError{Field: "stdin", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes", maxPoolInput)}
+	}
+	if err := input.ScanJSON(data, poolLayout); err != nil {
+		return poolInput{}, err
 	}
 	dec := json.NewDecoder(bytes.NewReader(data))
 	dec.DisallowUnknownFields()
@@ -143,7 +156,8 @@ func jsonInputError(err error) error {
 		if field == "" {
 			field = "stdin"
 		}
-		return &elicit.InputError{Field: field, Rule: ruleJSONType, Detail: fmt.Sprintf("got %s, want %s", typ.Value, typ.Type)}
+		// typ.Type is a Go type (main.poolInput): not for the reader.
+		return &elicit.InputError{Field: field, Rule: ruleJSONType, Detail: "got " + typ.Value}
 	case errors.Is(err, io.EOF), errors.Is(err, io.ErrUnexpectedEOF):
 		return &elicit.InputError{Field: "stdin", Rule: ruleJSONSyntax, Detail: "empty or cut short"}
 	}

@@ -1,0 +1,90 @@
+package input
+
+import (
+	"errors"
+	"reflect"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// An invented layout with what ScanJSON follows: nested structs, a
+// pointer, a list, a map with whole-number keys, a type that reads its
+// own JSON and an embedded struct.
+type scanPart struct {
+	Size float64 `json:"size"`
+	Note string  `json:"note"`
+}
+
+type scanEmbedded struct {
+	Shared int `json:"shared"`
+}
+
+type scanDoc struct {
+	scanEmbedded
+	Parts  []scanPart      `json:"parts"`
+	Main   *scanPart       `json:"main"`
+	ByID   map[int]float64 `json:"by_id"`
+	At     time.Time       `json:"at"`
+	Flag   bool            `json:"flag"`
+	Whole  int32           `json:"whole"`
+	Anyway any             `json:"anyway"`
+}
+
+var scanLayout = JSONLayout{
+	Type: reflect.TypeFor[scanDoc](), Whole: "doc",
+	Syntax: "syntax", Unknown: "unknown", WrongType: "type",
+}
+
+func TestScanJSONAccepts(t *testing.T) {
+	for _, doc := range []string{
+		`{}`,
+		`{"shared":1,"parts":[{"size":1.5,"note":"a\tb"},{"size":-2e300}],"main":{"size":0},"by_id":{"21":3},` +
+			`"at":"2026-01-02T03:04:05Z","flag":true,"whole":-7,"anyway":{"x":[1,"y"]}}`,
+		`{"main":null,"parts":null,"flag":null}`, // null decodes into anything
+		`{"parts":[{"note":"\ud835\udd38"}]}`,    // a surrogate pair as escapes
+	} {
+		if err := ScanJSON([]byte(doc), scanLayout); err != nil {
+			t.Errorf("%s: %v", doc, err)
+		}
+	}
+}
+
+func TestScanJSONRefuses(t *testing.T) {
+	for _, c := range []struct {
+		doc, field string
+		rule       elicit.Rule
+	}{
+		{`{"flag":true,"flag":false}`, "flag", RuleDuplicateKey},
+		{`{"parts":[{"size":1},{"size":1,"note":"x","size":2}]}`, "parts[1].size", RuleDuplicateKey},
+		{`{"by_id":{"21":1,"21":2}}`, "by_id[21]", RuleDuplicateKey},
+		{`{"Flag":true}`, "Flag", RuleKeySpelling},
+		{`{"main":{"note":"x","NOTE":"y"}}`, "main.NOTE", RuleKeySpelling},
+		{"{\"main\":{\"\u017fize\":1}}", "main.\u017fize", RuleKeySpelling}, // long s for s
+		{`{"by_id":{"021":1}}`, "by_id[021]", RuleKeySpelling},
+		{`{"shared":1,"SHARED":2}`, "SHARED", RuleKeySpelling},
+		{`{"parts":[{"colour":"red"}]}`, "parts[0].colour", "unknown"},
+		{`{"parts":[{"size":"1"}]}`, "parts[0].size", "type"},
+		{`{"parts":[{"size":1},{"note":7}]}`, "parts[1].note", "type"},
+		{`{"parts":{"size":1}}`, "parts", "type"},
+		{`{"whole":1.5}`, "whole", "type"},
+		{`{"whole":3000000000}`, "whole", "type"},
+		{`{"flag":"yes"}`, "flag", "type"},
+		{`[]`, "doc", "type"},
+		{`{"main":{"size":1e400}}`, "main.size", elicit.RuleFinite},
+		{`{"parts":[{"note":"a\u0000b"}]}`, "parts[0].note", RuleTextValid},
+		{"{\"parts\":[{\"note\":\"a\xffb\"}]}", "parts[0].note", RuleTextValid},
+		{`{"parts":[{"note":"a\udc00b"}]}`, "parts[0].note", RuleTextValid},
+		{`{"anyway":{"x":"\u001b[2J"}}`, "anyway.x", RuleTextValid},
+		{`{"parts":[`, "doc", "syntax"},
+		{`{"flag":true} {}`, "doc", "syntax"},
+		{``, "doc", "syntax"},
+	} {
+		err := ScanJSON([]byte(c.doc), scanLayout)
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != c.rule {
+			t.Errorf("%q: %v, want field %q rule %q", c.doc, err, c.field, c.rule)
+		}
+	}
+}
