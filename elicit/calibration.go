@@ -670,9 +670,11 @@ func InformationScore(quantiles, probs []float64, lower, upper float64) (float64
 
 // information is InformationScore on validated input. Each term is a sum
 // of logarithms: the ratio width/(next − prev) itself overflows when a
-// range near ±1e300 holds a bin near 1e-290 wide.
+// range near ±1e300 holds a bin near 1e-290 wide. A bin narrower than
+// the smallest normal number takes logSub, as Go's math.Log on amd64 is
+// wrong for subnormals (DEVELOPERS.md, accuracy envelope).
 func information(q, binP []float64, lo, hi float64) float64 {
-	logWidth := math.Log(hi - lo)
+	logWidth := logSub(hi - lo)
 	sum := 0.0
 	prev := lo
 	for j, p := range binP {
@@ -680,7 +682,7 @@ func information(q, binP []float64, lo, hi float64) float64 {
 		if j < len(q) {
 			next = q[j]
 		}
-		sum += p * (math.Log(p) + logWidth - math.Log(next-prev))
+		sum += p * (math.Log(p) + logWidth - logSub(next-prev))
 		prev = next
 	}
 	return sum
