@@ -679,3 +679,29 @@ func TestCalibrationPageWithoutScorableSeeds(t *testing.T) {
 		t.Errorf("missing workshop: %d", res.StatusCode)
 	}
 }
+
+// A rerun that cannot be done says why in words: never the model's own
+// message, which stays in the record.
+func TestSteadinessRerunErrorsInWords(t *testing.T) {
+	internal := "elicit: assessments: wrong number of entries (need at least 1 assessment, got 0)"
+	qs := []workshop.Question{{ID: 7, Position: 2, Quantity: "seed share", Calibration: true, Lower: 0, Upper: 1}}
+	rb := &workshop.Robustness{Targets: []int64{7}, Rows: []workshop.RobustnessRow{
+		{LeftOut: elicit.LeaveOutQuestion, ID: 7, Label: "Q2", Error: internal},
+		{LeftOut: elicit.LeaveOutExpert, ID: 1, Label: "Ada", Error: "elicit: experts: " + string(elicit.RuleNoScoredExperts)},
+		{LeftOut: elicit.LeaveOutExpert, ID: 2, Label: "Bo", Alpha: 0.1},
+	}}
+	s := newSteadiness("steady", rb, qs, map[int64]string{1: "Ada", 2: "Bo"})
+	for i, want := range []string{"Leaving out the only scored calibration question leaves nothing to score.",
+		"Without this expert, the classical model cannot score the panel.", ""} {
+		if s.Rows[i].Error != want {
+			t.Errorf("row %d: %q, want %q", i, s.Rows[i].Error, want)
+		}
+	}
+	var b strings.Builder
+	if err := steadinessSection(rb, "", qs, map[int64]string{1: "Ada", 2: "Bo"}, false).Render(context.Background(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(b.String(), "elicit:") || !strings.Contains(b.String(), "leaves nothing to score") {
+		t.Errorf("the section shows the model's own words or not the reason:\n%s", b.String())
+	}
+}

@@ -184,8 +184,12 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		}
 		s.Picture.Targets = append(s.Picture.Targets, ct)
 	}
+	scored := map[string]int{}
+	for _, r := range rb.Rows {
+		scored[r.LeftOut]++
+	}
 	for k, r := range rb.Rows {
-		l := rerunLine{Error: r.Error, Alpha: fv(r.Alpha), Shift: fv(r.Shift)}
+		l := rerunLine{Error: rerunError(r, scored[r.LeftOut]), Alpha: fv(r.Alpha), Shift: fv(r.Shift)}
 		// A rule under the whole panel's row, and between the reruns
 		// without a question and those without an expert.
 		newGroup := k == 0 || rb.Rows[k-1].LeftOut != r.LeftOut
@@ -224,6 +228,23 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		s.Rows = append(s.Rows, l)
 	}
 	return s
+}
+
+// rerunError says in words why a rerun without one question or expert
+// cannot be done, or "" when it was; n is how many of that kind were
+// scored. The model's own message stays in the record (LeaveOneOutCase).
+func rerunError(r workshop.RobustnessRow, n int) string {
+	switch {
+	case r.Error == "":
+		return ""
+	case r.LeftOut == elicit.LeaveOutQuestion && n <= 1:
+		return "Leaving out the only scored calibration question leaves nothing to score."
+	case r.LeftOut == elicit.LeaveOutExpert && n <= 1:
+		return "Leaving out the only scored expert leaves no one to score."
+	case r.LeftOut == elicit.LeaveOutExpert:
+		return "Without this expert, the classical model cannot score the panel."
+	}
+	return "Without this question, the classical model cannot score the panel."
 }
 
 // weightGoesTo names the experts with weight in a rerun, largest first.

@@ -686,3 +686,16 @@ func TestPanelWeightsPointToCalibration(t *testing.T) {
 		t.Errorf("weights after choosing performance weights:\n%s", w)
 	}
 }
+
+// The invented-data banner shows on every invented workshop, whatever its
+// scenario, so it names none (it once named the demo's inverter on a
+// water-mains panel).
+func TestInventedBannerNamesNoScenario(t *testing.T) {
+	var b strings.Builder
+	if err := inventedBanner().Render(context.Background(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if s := b.String(); !strings.Contains(s, "made up") || strings.Contains(s, "inverter") || strings.Contains(s, "utility") {
+		t.Errorf("banner: %s", s)
+	}
+}
