@@ -73,6 +73,13 @@ type expertQuestionView struct {
 	FeedbackRound int
 	// PanelMissing is set when the panel could not be read.
 	PanelMissing bool
+	// PanelHeld is set from round 2 on a calibration question whose true
+	// value is not yet revealed: the other experts' answers are held back
+	// (workshop.Question.PanelHeld) and the page says why.
+	PanelHeld bool
+	// OwnCurve says the panel includes the expert's own current curve;
+	// without it the feedback's words do not promise one.
+	OwnCurve bool
 	// Reasons are the other experts' reasons from the feedback round,
 	// under the same labels as their curves; withheld ones are left out.
 	Reasons []feedbackReason
@@ -622,7 +629,11 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		v.EnteredNote = "was entered by the facilitator on " + cur.At.UTC().Format(timeLayout) + " " + channelForExpert(cur.Channel)
 	}
 	if v.FeedbackRound = sc.workshop.FeedbackRound(); v.FeedbackRound > 0 {
-		v.Panel, v.Spread, v.Reasons, v.PanelMissing = s.anonymousPanel(r, sc)
+		if q.PanelHeld() {
+			v.PanelHeld = true
+		} else {
+			s.anonymousPanel(r, sc, &v)
+		}
 	}
 	return v
 }
@@ -732,24 +743,26 @@ func problemSummary(af answerForm, f *Form) string {
 	return "No fit yet: check the marked fields."
 }
 
-// anonymousPanel draws, from round 2, the panel as it stood when the
-// previous round closed (elicit's FeedbackRound): the other experts'
+// anonymousPanel draws into v, from round 2, the panel as it stood when
+// the previous round closed (elicit's FeedbackRound): the other experts'
 // fitted curves without names, in the order of panelOrder (not by name,
 // id or time of answer), beside
 // the asking expert's own current curve and the equal-weight pool of the
 // whole panel at that close. Beyond overlayLimit other experts it
-// returns a spread instead: the own curve and the pool, with each other
-// expert as one interval.
-func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelView, *chart.SpreadView, []feedbackReason, bool) {
+// draws a spread instead: the own curve and the pool, with each other
+// expert as one interval. The caller leaves out a question whose panel
+// is held (workshop.Question.PanelHeld).
+func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuestionView) {
 	fb, err := s.feedbackFor(r, sc)
 	if err != nil {
 		// The page is still useful without the panel; it says so, and the
 		// cause is logged.
 		s.logFailure(r, "round feedback", err, "question", sc.question.ID)
-		return nil, nil, nil, true
+		v.PanelMissing = true
+		return
 	}
 	if fb == nil {
-		return nil, nil, nil, false
+		return
 	}
 	q := sc.question
 	var own *elicit.ScaledBeta
@@ -766,14 +779,15 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 		}
 	}
 	if len(others) == 0 {
-		return nil, nil, nil, false
+		return
 	}
 	var curves []chart.Curve
 	if own != nil {
 		curves = append(curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
+		v.OwnCurve = true
 	}
 	id := "panel-q" + strconv.FormatInt(q.ID, 10)
-	reasons := fb.reasons(sc.expert.ID)
+	v.Reasons = fb.reasons(sc.expert.ID)
 	if len(others) > overlayLimit {
 		if fb.poolErr == nil {
 			curves = append(curves, poolCurve(fb.pool))
@@ -782,7 +796,8 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 		for i, m := range others {
 			dists[i] = m.dist
 		}
-		return nil, &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists}, reasons, false
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists}
+		return
 	}
 	for _, m := range others {
 		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
@@ -790,7 +805,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope) (*chart.PanelVi
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
 	}
-	return &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}, nil, reasons, false
+	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
 }
 
 // feedback is what every expert's page of a question shares through a

@@ -13,7 +13,8 @@ import (
 // the panel discusses it between rounds. It shows what the experts see in
 // their round feedback, under the same labels in the same order, and
 // nothing they do not: no names, no weights, no true value before the
-// reveal, and no link that leaves the room view.
+// reveal, no answers at all to a calibration question before its reveal,
+// and no link that leaves the room view.
 
 // roomView is what the room page shows.
 type roomView struct {
@@ -35,6 +36,10 @@ type roomView struct {
 	Reasons  []feedbackReason
 	Truth    string // the revealed true value, "" before the reveal
 	Note     string // why there is no panel, when there is none
+	// Held is set for a calibration question whose true value is not yet
+	// revealed: the room shows none of its answers, as the experts' pages
+	// do not (workshop.Question.PanelHeld).
+	Held bool
 }
 
 // roomRound is the round whose close the room shows: while a round is
@@ -130,6 +135,11 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	}
 	if q.Retired {
 		v.Note = "This question has been retired: experts no longer see it."
+		return nil
+	}
+	if q.PanelHeld() {
+		v.Held = true
+		v.Note = "The panel's answers to this question are held back until its true value is shown, so that every expert's answer to it stays their own."
 		return nil
 	}
 	if v.Through == 0 {

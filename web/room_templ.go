@@ -129,7 +129,7 @@ func roomPage(v roomView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if v.Through > 0 {
+		if v.Through > 0 && !v.Held {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 9, "Shown: every expert's answer as round ")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err

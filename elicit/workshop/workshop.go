@@ -78,6 +78,15 @@ type Question struct {
 // calibration question whose true value has been revealed.
 func (q Question) Frozen() bool { return q.Calibration && q.Revealed }
 
+// PanelHeld reports whether the experts may not yet see each other's
+// answers to the question: a calibration question whose true value has
+// not been revealed. Cooke's classical model scores each expert's own
+// judgement of the seed questions; an expert who had seen the panel's
+// answers could move towards them, and the score would then measure
+// agreement with the panel as much as calibration. The facilitator sees
+// every answer throughout.
+func (q Question) PanelHeld() bool { return q.Calibration && !q.Revealed }
+
 // Expert is a panel member. Access tokens are a storage concern and are
 // not part of this type.
 type Expert struct {
