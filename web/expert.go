@@ -808,6 +808,45 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
 }
 
+// panelIntro is the sentence above the overlaid panel. It speaks of the
+// expert's own curve only when the panel draws one.
+func (v expertQuestionView) panelIntro() string {
+	with := " With them is the equal-weight pool of the whole panel at that close."
+	if v.OwnCurve {
+		with = " With them are your current curve and the equal-weight pool of the whole panel at that close."
+	}
+	return "The other experts' fitted curves as they stood when round " + strconv.Itoa(v.FeedbackRound) +
+		" closed, without names: the letters follow an order that says nothing about who they are." + with +
+		" Everyone sees the same panel through this round." + v.feedbackUse()
+}
+
+// spreadIntro is the sentence above the spread of a large panel.
+func (v expertQuestionView) spreadIntro() string {
+	lead := "The equal-weight pool of the whole panel"
+	if v.OwnCurve {
+		lead = "Your current fitted curve with the equal-weight pool of the whole panel"
+	}
+	return lead + " as round " + strconv.Itoa(v.FeedbackRound) + " closed, and below it one line per other expert at that close, without names, " +
+		"from their 5th to their 95th percentile with a dot at their median, sorted by median. Everyone sees the same panel through this round." + v.feedbackUse()
+}
+
+// feedbackUse says what the feedback is for: to reconsider an answer the
+// expert has given, or, before they have given one, to settle their own
+// judgement first.
+func (v expertQuestionView) feedbackUse() string {
+	switch {
+	case v.OwnCurve:
+		return " Use it to reconsider your own judgement; you need not agree."
+	case len(v.History) > 0:
+		// An answer that cannot be drawn: no promise of a curve.
+		return " Use it to reconsider your own judgement; you need not agree."
+	case v.Frozen:
+		return " You gave no answer to this question before its true value was shown."
+	}
+	return " You have not saved an answer to this question yet: it is worth settling your own judgement before you read theirs. " +
+		"Once you save, your curve appears here beside them; you need not agree with them."
+}
+
 // feedback is what every expert's page of a question shares through a
 // round: the fits of the panel's active experts as the previous round
 // closed, in the panel's order and under its labels, their reasons, and

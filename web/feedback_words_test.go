@@ -1,0 +1,81 @@
+package web
+
+import (
+	"context"
+	"html"
+	"net/http"
+	"strings"
+	"testing"
+)
+
+// ownCurveWords promise the expert's own curve in the round feedback;
+// notYetWords are said instead to an expert with no answer.
+const (
+	ownCurveWords = "With them are your current curve and the equal-weight pool"
+	notYetWords   = "You have not saved an answer to this question yet: it is worth settling your own judgement before you read theirs."
+)
+
+// The round feedback promises the expert's own curve only when it draws
+// one: an expert with no answer yet is told to settle their own judgement
+// first, and that their curve appears once they save.
+func TestFeedbackWordsFollowTheExpertsOwnAnswer(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	ctx := context.Background()
+	for i, a := range [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}} {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	page := func(i int) string {
+		_, body := g.get(g.qpath(i, g.q))
+		return html.UnescapeString(body)
+	}
+	ada := page(0)
+	if !strings.Contains(ada, ownCurveWords) || strings.Contains(ada, notYetWords) || !strings.Contains(ada, `data-label="You"`) {
+		t.Error("Ada, who answered, is not told her own curve is drawn with the panel")
+	}
+	// Chiara answered nothing in round 1.
+	chiara := page(2)
+	if !strings.Contains(chiara, "What the other experts said") {
+		t.Fatal("Chiara sees no panel in round 2")
+	}
+	if strings.Contains(chiara, ownCurveWords) || strings.Contains(chiara, "your current curve") || strings.Contains(chiara, `data-label="You"`) {
+		t.Error("Chiara, with no answer, is promised her own curve")
+	}
+	for _, want := range []string{"With them is the equal-weight pool", notYetWords, "Once you save, your curve appears here beside them"} {
+		if !strings.Contains(chiara, want) {
+			t.Errorf("Chiara's feedback lacks %q", want)
+		}
+	}
+	// Once she saves, her curve is there and the words say so.
+	if resp, _ := g.post(g.qpath(2, g.q)+"/save", quantiles("0.1", "0.3", "0.5")); resp.StatusCode != http.StatusSeeOther {
+		t.Fatal("Chiara's save failed")
+	}
+	if chiara = page(2); !strings.Contains(chiara, ownCurveWords) || strings.Contains(chiara, notYetWords) {
+		t.Error("after her save Chiara's feedback does not speak of her curve")
+	}
+}
+
+// The large panel's spread says the same.
+func TestSpreadWordsFollowTheExpertsOwnAnswer(t *testing.T) {
+	mine := expertQuestionView{FeedbackRound: 1, OwnCurve: true, History: []historyRow{{Round: 1}}}
+	none := expertQuestionView{FeedbackRound: 1}
+	if got := mine.spreadIntro(); !strings.HasPrefix(got, "Your current fitted curve with the equal-weight pool") || strings.Contains(got, "not saved") {
+		t.Errorf("with an answer: %q", got)
+	}
+	if got := none.spreadIntro(); !strings.HasPrefix(got, "The equal-weight pool of the whole panel as round 1 closed") ||
+		strings.Contains(got, "Your current") || !strings.Contains(got, notYetWords) {
+		t.Errorf("without an answer: %q", got)
+	}
+	// After a reveal an expert who never answered cannot save any more.
+	none.Frozen = true
+	if got := none.spreadIntro(); strings.Contains(got, "Once you save") || !strings.Contains(got, "You gave no answer to this question before its true value was shown.") {
+		t.Errorf("without an answer, after the reveal: %q", got)
+	}
+}
