@@ -37,7 +37,7 @@ func TestFacilitatorEntryInBrowser(t *testing.T) {
 	fac.do("choose the paper form", chromedp.SetValue(chromedp.CSS(`form.answer-form select[name=channel]`), string(workshop.ChannelPaperForm)))
 	typeValues(fac, "0.02", "0.05", "0.12")
 	livePreview(t, fac, 3, nil, "above 0.12")
-	fac.sees("entry preview", "What your numbers imply", "Beta(α = ")
+	fac.sees("entry preview", "What Priya Raman's numbers imply", "Priya Raman is saying", "Beta(α = ")
 	shots.take(fac, "entry-01-facilitator-enters-for-priya")
 	if st := fac.load("save for Priya", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusOK {
 		t.Fatalf("save: %d", st)

@@ -314,34 +314,45 @@ func readAsLine(q workshop.Question, values []float64) string {
 	return "Read as " + strings.Join(parts[:last], ", ") + " and " + parts[last] + "."
 }
 
-// expertWarnings are a fit's warnings in words for the expert; the
-// facilitator's pages keep elicit's own, written for them.
-func expertWarnings(q workshop.Question, fit elicit.Fit) []string {
+// expertWarnings are a fit's warnings in words for the expert, or, on the
+// facilitator's page for entering on an expert's behalf, about the expert
+// by name (sp); the facilitator's panel keeps elicit's own, written for
+// them.
+func expertWarnings(q workshop.Question, fit elicit.Fit, sp speaker) []string {
 	var out []string
+	numbers := sp.pick("your numbers", "%s's numbers")
 	for _, w := range fit.Warnings {
 		switch w.Code {
 		case elicit.WarnUShaped:
-			out = append(out, "The curve that fits your numbers piles up at both ends: it says the value is most likely close to "+
-				chart.FormatValue(q.Lower)+" or to "+chart.FormatValue(q.Upper)+", and least likely in between. If that is not what you mean, bring your outer values in towards your middle one.")
+			out = append(out, "The curve that fits "+numbers+" piles up at both ends: it says the value is most likely close to "+
+				chart.FormatValue(q.Lower)+" or to "+chart.FormatValue(q.Upper)+", and least likely in between. "+
+				sp.pick("If that is not what you mean, bring your outer values in towards your middle one.",
+					"If that is not what %s means, bring the outer values in towards the middle one."))
 		case elicit.WarnJShaped:
 			end := chart.FormatValue(q.Lower)
 			if fit.Dist.Alpha >= 1 {
 				end = chart.FormatValue(q.Upper)
 			}
-			out = append(out, "The curve that fits your numbers is highest right at "+end+": it says values at the very edge are the most likely. If you expect the value to sit a little away from "+end+", adjust your values.")
+			out = append(out, "The curve that fits "+numbers+" is highest right at "+end+": it says values at the very edge are the most likely. "+
+				sp.pick("If you expect", "If %s expects")+" the value to sit a little away from "+end+", adjust "+sp.pick("your", "the")+" values.")
 		case elicit.WarnPoorFit:
-			out = append(out, "No curve of this kind matches all your numbers closely; the sentences above show how far it is from each. You may want to adjust one of them.")
+			out = append(out, "No curve of this kind matches all "+numbers+" closely; the sentences above show how far it is from each. "+
+				sp.pick("You may want to adjust one of them.", "%s may want to adjust one of them."))
 		case elicit.WarnTailMisfit:
-			out = append(out, "The curve does not match how far out one of your outer values lies: the sentences above show the chance it gives beyond each. You may want to adjust your values.")
+			out = append(out, "The curve does not match how far out one of "+sp.pick("your", "%s's")+" outer values lies: the sentences above show the chance it gives beyond each. "+
+				sp.pick("You may want to adjust your values.", "%s may want to adjust the values."))
 		case elicit.WarnNearCertainty:
-			out = append(out, "Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.")
+			out = append(out, sp.pick("Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.",
+				"%s's values are very close together: they say they are nearly certain of the value. If they are less sure than that, widen them."))
 		default:
-			out = append(out, "Please check the curve against your numbers.")
+			out = append(out, "Please check the curve against "+numbers+".")
 		}
 	}
 	if q.Format == workshop.FormatInterval && len(fit.Probs) == 3 {
 		if c := fit.Probs[2] - fit.Probs[0]; c < 0.5 {
-			out = append(out, "You are "+chart.FormatPercent(c)+" sure the value lies between your lowest and highest values, so you think it more likely lies outside them. If you meant that you are fairly sure it lies inside, raise the confidence.")
+			out = append(out, sp.pick("You are", "%s is")+" "+chart.FormatPercent(c)+" sure the value lies between "+
+				sp.pick("your lowest and highest values, so you think it more likely lies outside them. If you meant that you are fairly sure it lies inside, raise the confidence.",
+					"their lowest and highest values, so they think it more likely lies outside them. If they meant that they are fairly sure it lies inside, raise the confidence."))
 		}
 	}
 	return out

@@ -150,6 +150,9 @@ type formField struct {
 
 // previewView is the fitted picture with its read-backs.
 type previewView struct {
+	// Heading names whose numbers the read-backs describe: "What your
+	// numbers imply", or the expert's name on the facilitator's page.
+	Heading   string
 	Fit       chart.FitView
 	Params    string
 	ReadBacks []string
@@ -194,9 +197,26 @@ func chance(p float64) string {
 	return "a " + chart.FormatPercent(p) + " chance"
 }
 
+// speaker is whose judgement a preview reads back: the expert on their
+// own page ("you"), or, on the facilitator's page for entering an expert's
+// judgement on their behalf, that expert by name, since the facilitator
+// reads the sentences back to them.
+type speaker struct {
+	Name string // "" on the expert's own page
+}
+
+// pick returns you on the expert's own page, named on the facilitator's,
+// with every "%s" in named replaced by the expert's name.
+func (sp speaker) pick(you, named string) string {
+	if sp.Name == "" {
+		return you
+	}
+	return strings.ReplaceAll(named, "%s", sp.Name)
+}
+
 // readBack turns one stated pair P(X ≤ x) = p into a sentence, speaking of
 // the smaller tail so that 95% reads "1 in 20 ... above".
-func readBack(p, x float64, units string, percent bool) string {
+func readBack(p, x float64, units string, percent bool, sp speaker) string {
 	v := chart.FormatValue(x)
 	if u := strings.TrimSpace(units); u != "" {
 		v += " " + u
@@ -205,13 +225,14 @@ func readBack(p, x float64, units string, percent bool) string {
 		// The expert typed percentages: speak in them.
 		v = chart.FormatPercent(x)
 	}
+	says := sp.pick("You are saying", "%s is saying")
 	switch {
 	case p == 0.5:
-		return "You are saying the value is as likely to be below " + v + " as above it."
+		return says + " the value is as likely to be below " + v + " as above it."
 	case p < 0.5:
-		return "You are saying there is " + chance(p) + " the value is below " + v + "."
+		return says + " there is " + chance(p) + " the value is below " + v + "."
 	}
-	return "You are saying there is " + chance(1-p) + " the value is above " + v + "."
+	return says + " there is " + chance(1-p) + " the value is above " + v + "."
 }
 
 // fittedBack says what the fitted Beta gives for the same statement.
@@ -451,7 +472,7 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		cur := sc.own[n-1]
 		typed = answerValues(sc.question, cur.Answer)
 		if fit, err := s.fits.fit(sc.question, cur); err == nil {
-			preview = newPreview(sc.question, fit, cur.Answer.Percent)
+			preview = newPreview(sc.question, fit, cur.Answer.Percent, speaker{})
 		}
 	}
 	v := s.questionView(r, sc, typed, "")
@@ -481,7 +502,7 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 	status := http.StatusOK
 	var p *previewView
 	if ok {
-		p = newPreview(sc.question, fit, a.Percent)
+		p = newPreview(sc.question, fit, a.Percent, speaker{})
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil), f)}
@@ -528,7 +549,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			v.Preview = &previewView{Problem: problemSummary(v.Form, f)}
 		default:
 			applyErrors(&v.Form, f)
-			v.Preview = newPreview(sc.question, *fit, a.Percent)
+			v.Preview = newPreview(sc.question, *fit, a.Percent, speaker{})
 		}
 		if closed != "" {
 			v.Open, v.Closed = false, closed
@@ -675,10 +696,12 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 }
 
 // newPreview turns a fit into the picture and its read-backs; percent
-// says the expert typed percentages, which the read-backs then use.
-func newPreview(q workshop.Question, fit elicit.Fit, percent bool) *previewView {
+// says the expert typed percentages, which the read-backs then use, and
+// sp whose judgement it is.
+func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *previewView {
 	p := &previewView{
-		Params: fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
+		Heading: "What " + sp.pick("your", "%s's") + " numbers imply",
+		Params:  fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
 		Fit: chart.FitView{
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
@@ -699,7 +722,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool) *previewView 
 			p.Fit.Fitted = append(p.Fit.Fitted, fit.Fitted[i])
 			p.Fit.FittedProbs = append(p.Fit.FittedProbs, pr+fit.ProbErrors[i])
 		}
-		line := readBack(pr, x, q.Units, percent && q.Format != workshop.FormatChips)
+		line := readBack(pr, x, q.Units, percent && q.Format != workshop.FormatChips, sp)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
 		}
@@ -707,7 +730,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool) *previewView 
 	}
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted %s puts the middle 90%% of the chance between %s and %s, with median %s.",
 		p.Params, typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent)))
-	p.Warnings = expertWarnings(q, fit)
+	p.Warnings = expertWarnings(q, fit, sp)
 	return p
 }
 

@@ -610,12 +610,12 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		{0.95, 0.3, "You are saying there is a 1 in 20 chance the value is above 0.3 per demand."},
 		{0.5, 0.1, "You are saying the value is as likely to be below 0.1 per demand as above it."},
 	} {
-		if got := readBack(c.p, c.x, "per demand", false); got != c.want {
+		if got := readBack(c.p, c.x, "per demand", false, speaker{}); got != c.want {
 			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
 		}
 	}
 	// For an expert who typed percentages, the read-back speaks in them.
-	if got, want := readBack(0.05, 0.03, "proportion of mains", true), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
+	if got, want := readBack(0.05, 0.03, "proportion of mains", true, speaker{}), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
 		t.Errorf("in percentages: %q, want %q", got, want)
 	}
 }

@@ -49,6 +49,9 @@ type entryScope struct {
 	e  workshop.Expert
 }
 
+// speaker names the expert in the read-backs the facilitator reads to them.
+func (sc entryScope) speaker() speaker { return speaker{Name: sc.e.Name} }
+
 func (s *Server) loadEntry(w http.ResponseWriter, r *http.Request) (entryScope, bool) {
 	var sc entryScope
 	var ok bool
@@ -94,7 +97,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	if n := len(own); n > 0 {
 		typed = answerValues(sc.q, own[n-1].Answer)
 		if fit, err := s.fits.fit(sc.q, own[n-1]); err == nil {
-			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent)
+			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent, sc.speaker())
 		}
 	}
 	v := s.entryView(sc, own, typed, "", string(workshop.ChannelInPerson))
@@ -152,7 +155,7 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 	status := http.StatusOK
 	var p *previewView
 	if ok {
-		p = newPreview(sc.q, fit, a.Percent)
+		p = newPreview(sc.q, fit, a.Percent, sc.speaker())
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)}
@@ -214,23 +217,23 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		case errors.Is(err, workshop.ErrRevoked):
 			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
 		case s.notSaved(r, f, err):
-			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit, a.Percent))
+			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit, a.Percent, sc.speaker()))
 			return
 		default:
 			s.fail(w, r, err)
 			return
 		}
-		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit, a.Percent))
+		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit, a.Percent, sc.speaker()))
 		return
 	}
 	http.Redirect(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)+"?saved=1", http.StatusSeeOther)
 }
 
-func newPreviewPtr(q workshop.Question, fit elicit.Fit, percent bool) *previewView {
+func newPreviewPtr(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *previewView {
 	if len(fit.Probs) == 0 {
 		return nil
 	}
-	return newPreview(q, fit, percent)
+	return newPreview(q, fit, percent, sp)
 }
 
 // expertView is one expert's page for the facilitator: each question

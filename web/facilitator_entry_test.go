@@ -36,7 +36,7 @@ func TestFacilitatorEntersForAnExpert(t *testing.T) {
 		"reason": {"Field returns from the pilot site (invented)."}}
 	// The live preview is the expert's: read-backs and the fitted Beta.
 	r, frag := h.post(page+"/preview?fragment=1", form)
-	if r.StatusCode != http.StatusOK || !strings.Contains(frag, "What your numbers imply") || !strings.Contains(frag, "Beta(α = ") {
+	if r.StatusCode != http.StatusOK || !strings.Contains(frag, "What Priya Raman&#39;s numbers imply") || !strings.Contains(frag, "Beta(α = ") {
 		t.Fatalf("entry preview: %d %s", r.StatusCode, frag)
 	}
 	// Bad input: every rule of the expert's page, nothing saved.

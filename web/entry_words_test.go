@@ -1,0 +1,97 @@
+package web
+
+import (
+	"html"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// youWords finds the second person, which on the facilitator's page for
+// entering an expert's judgement would speak to the facilitator as if
+// they were the expert.
+var youWords = regexp.MustCompile(`(?i)\b(you|your|you're)\b`)
+
+// On the facilitator's page for entering a judgement on an expert's
+// behalf, the preview's heading and read-backs name the expert; on the
+// expert's own page they say "you".
+func TestEntryPreviewNamesTheExpert(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	q := qs[0]
+	priya := es[2] // has not answered question 1 in the demo
+	page := entryPath(ws.ID, q.ID, priya.ID)
+	form := url.Values{"channel": {"phone"}, "values[0]": {"0.01"}, "values[1]": {"0.03"}, "values[2]": {"0.09"}}
+	preview := func(body string) string {
+		body = html.UnescapeString(body)
+		start := strings.Index(body, `id="preview"`)
+		end := strings.Index(body[max(start, 0):], "<svg")
+		if start < 0 || end < 0 {
+			t.Fatalf("no preview before its picture in:\n%s", body)
+		}
+		return body[start : start+end]
+	}
+
+	_, frag := h.post(page+"/preview?fragment=1", form)
+	frag = html.UnescapeString(frag)
+	if i := strings.Index(frag, "<svg"); i > 0 {
+		frag = frag[:i]
+	}
+	if r, _ := h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d", r.StatusCode)
+	}
+	_, full := h.get(page)
+	for what, text := range map[string]string{"live preview": frag, "page after saving": preview(full)} {
+		for _, want := range []string{"What Priya Raman's numbers imply", "Priya Raman is saying there is a 1 in 20 chance the value is below 0.01",
+			"Priya Raman is saying the value is as likely to be below 0.03"} {
+			if !strings.Contains(text, want) {
+				t.Errorf("entry %s lacks %q", what, want)
+			}
+		}
+		if m := youWords.FindString(text); m != "" {
+			t.Errorf("entry %s speaks to the facilitator as the expert (%q)", what, m)
+		}
+	}
+
+	// The expert's own page keeps "you".
+	_, own := h.get(links[2].Path + "q/" + strconv.FormatInt(q.ID, 10))
+	own = preview(own)
+	for _, want := range []string{"What your numbers imply", "You are saying there is a 1 in 20 chance the value is below 0.01"} {
+		if !strings.Contains(own, want) {
+			t.Errorf("the expert's own preview lacks %q", want)
+		}
+	}
+	if strings.Contains(own, "Priya Raman") {
+		t.Error("the expert's own preview names her in the third person")
+	}
+}
+
+// Every warning the preview can give names the expert on the
+// facilitator's page and speaks to the expert on their own.
+func TestEntryWarningsNameTheExpert(t *testing.T) {
+	q := workshop.Question{Lower: 0, Upper: 1, Format: workshop.FormatInterval}
+	fit := elicit.Fit{
+		Dist:  elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 0.5, Beta: 3}, Lower: 0, Upper: 1},
+		Probs: []float64{0.3, 0.5, 0.7}, // 40% sure of the interval
+		Warnings: []elicit.Warning{{Code: elicit.WarnUShaped}, {Code: elicit.WarnJShaped}, {Code: elicit.WarnPoorFit},
+			{Code: elicit.WarnTailMisfit}, {Code: elicit.WarnNearCertainty}, {Code: "some_later_code"}},
+	}
+	own := expertWarnings(q, fit, speaker{})
+	named := expertWarnings(q, fit, speaker{Name: "Carmen Ruiz"})
+	if len(own) != 7 || len(named) != 7 {
+		t.Fatalf("%d and %d warnings, want 7 each", len(own), len(named))
+	}
+	for i := range own {
+		if !youWords.MatchString(own[i]) || strings.Contains(own[i], "Carmen Ruiz") {
+			t.Errorf("the expert's warning %d does not speak to them: %q", i, own[i])
+		}
+		if m := youWords.FindString(named[i]); m != "" || !strings.Contains(named[i], "Carmen Ruiz") {
+			t.Errorf("the facilitator's warning %d does not name the expert (%q): %q", i, m, named[i])
+		}
+	}
+}
