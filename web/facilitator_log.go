@@ -44,13 +44,19 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Decision log", "log"), logPage(newLogView(ws, evs, qs, es)))
+	ps, err := s.store.AgreedPriors(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Decision log", "log"), logPage(newLogView(ws, evs, qs, es, ps)))
 }
 
 // newLogView writes each event as a row of the log, naming experts and
-// questions instead of their ids.
-func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert) logView {
-	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}}
+// questions instead of their ids; ps are the workshop's agreed priors,
+// for what an agreement's event does not carry (a consensus judgement).
+func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior) logView {
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps}
 	for _, q := range qs {
 		w.questions[q.ID] = q
 	}
@@ -131,6 +137,18 @@ type eventWriter struct {
 	questions map[int64]workshop.Question
 	experts   []workshop.Expert
 	revealed  map[int64]bool
+	priors    []workshop.AgreedPrior
+}
+
+// prior is the agreed prior that event e recorded: the store writes the
+// prior and its event in one transaction with one time stamp.
+func (w eventWriter) prior(e workshop.Event) (workshop.AgreedPrior, bool) {
+	for _, p := range w.priors {
+		if p.QuestionID == e.QuestionID && p.At.Equal(e.At) {
+			return p, true
+		}
+	}
+	return workshop.AgreedPrior{}, false
 }
 
 // appliesTo is the question an event concerns, or the expert for the
@@ -198,6 +216,9 @@ func (w eventWriter) sentence(e workshop.Event) string {
 	case workshop.EventPriorAgreed:
 		if d.Dist != nil {
 			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
+			if p, ok := w.prior(e); ok && p.Source == workshop.PriorFromConsensus && p.Consensus != nil {
+				s = betaLabel(*d.Dist) + ": the " + priorOrigin(w.questions[e.QuestionID], p) + "."
+			}
 			if d.Construction != nil {
 				if c, err := elicit.Construct(*d.Construction); err == nil {
 					s = betaLabel(*d.Dist) + ": a quick construction, " + c.Describe() + "."
