@@ -82,6 +82,22 @@ type quickResult struct {
 	Method       string // the elicit method, for recording it
 }
 
+// proportion says the construction is on [0, 1], where α + β counts
+// imagined binomial trials; on other bounds no trials give it meaning.
+func (r quickResult) proportion() bool {
+	return r.Construction.Input.Lower == 0 && r.Construction.Input.Upper == 1
+}
+
+// weightWords says how much the prior weighs: in trials for a proportion,
+// and as α + β itself on any other scale.
+func (r quickResult) weightWords() string {
+	if r.proportion() {
+		return worthWords(r.Worth)
+	}
+	return "α + β = " + fv(r.Worth.Trials) + ": the larger it is, the narrower the prior. " +
+		"It is not a number of trials here; that reading holds only for a proportion on 0 to 1."
+}
+
 // quickView is the quick-priors page.
 type quickView struct {
 	Workshop  workshop.Workshop
