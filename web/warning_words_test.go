@@ -1,0 +1,115 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// The facilitator's pages write elicit's warnings with α and β: the
+// panel's judgement table and the quick priors, for a proportion (worth
+// so many observed trials, α + β above the limit) and for a question in
+// days (α + β itself, no trials). The numbers are elicit's own.
+func TestWarningsWriteAlphaAndBeta(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	days := workshop.Question{WorkshopID: ws.ID, Wording: "How many days does a pump repair take? (invented)",
+		Quantity: "Repair time", Units: "days", Lower: 0, Upper: 30, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	if err := h.db.AddQuestion(ctx, &days); err != nil {
+		t.Fatal(err)
+	}
+	// An expert nearly certain on each question (invented answers).
+	var wants []string
+	for _, c := range []struct {
+		q      workshop.Question
+		values []float64
+	}{{qs[0], []float64{0.0495, 0.05, 0.0505}}, {days, []float64{9.9, 10, 10.1}}} {
+		rv := workshop.Revision{QuestionID: c.q.ID, ExpertID: es[0].ID, Answer: workshop.Answer{Values: c.values}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		fit, err := c.q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !hasCode(fit.Warnings, elicit.WarnNearCertainty) {
+			t.Fatalf("Q%d: the test's answer draws no near-certainty warning: %+v", c.q.Position, fit.Warnings)
+		}
+		sum := strconv.FormatFloat(fit.Dist.Alpha+fit.Dist.Beta.Beta, 'f', 0, 64)
+		want := "worth about " + sum + " observed trials (α + β above " + strconv.Itoa(elicit.NearCertaintyESS) + ")"
+		if !c.q.IsProportion() {
+			want = "has α + β of about " + sum + " (above " + strconv.Itoa(elicit.NearCertaintyESS) + ")"
+		}
+		_, body := h.get(questionPath(ws.ID, c.q.ID))
+		checkWarningWords(t, "panel Q"+strconv.Itoa(c.q.Position), body, want, c.q.IsProportion())
+		wants = append(wants, want)
+	}
+	// The report has both questions' warnings.
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	for _, w := range wants {
+		checkWarningWords(t, "report", report, w, true)
+	}
+
+	// A U-shaped mean and SD, and a very narrow interval, on each scale.
+	qp := quickPriorsPath(ws.ID)
+	for _, c := range []struct {
+		q     workshop.Question
+		query string
+		in    elicit.ConstructionInput
+	}{
+		{qs[0], "&construction=mean_sd&c_mean=0.5&c_sd=0.45", elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 0.5, SD: 0.45, Upper: 1}},
+		{days, "&construction=mean_sd&c_mean=15&c_sd=13.5", elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 15, SD: 13.5, Upper: 30}},
+		{qs[0], "&construction=interval&c_low=0.049&c_high=0.051&c_coverage=0.9", elicit.ConstructionInput{Method: elicit.MethodIntervalMoments, Low: 0.049, High: 0.051, Coverage: 0.9, Upper: 1}},
+		{days, "&construction=interval&c_low=9.9&c_high=10.1&c_coverage=0.9", elicit.ConstructionInput{Method: elicit.MethodIntervalMoments, Low: 9.9, High: 10.1, Coverage: 0.9, Upper: 30}},
+	} {
+		con, err := elicit.Construct(c.in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		var want string
+		switch {
+		case hasCode(con.Warnings, elicit.WarnUShaped):
+			want = "(α = " + strconv.FormatFloat(con.Dist.Alpha, 'g', 3, 64) + " and β = " + strconv.FormatFloat(con.Dist.Beta.Beta, 'g', 3, 64) + " are both below 1)"
+		case hasCode(con.Warnings, elicit.WarnNearCertainty) && c.q.IsProportion():
+			want = "worth about " + strconv.FormatFloat(con.Dist.Alpha+con.Dist.Beta.Beta, 'f', 0, 64) + " observed trials (α + β above"
+		case hasCode(con.Warnings, elicit.WarnNearCertainty):
+			want = "has α + β of about " + strconv.FormatFloat(con.Dist.Alpha+con.Dist.Beta.Beta, 'f', 0, 64) + " (above"
+		default:
+			t.Fatalf("%s: the test's construction draws no warning to check", c.query)
+		}
+		res, body := h.get(qp + "?question=" + strconv.FormatInt(c.q.ID, 10) + c.query)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", c.query, res.StatusCode)
+		}
+		checkWarningWords(t, "quick priors "+c.query, body, want, c.q.IsProportion())
+	}
+}
+
+func hasCode(ws []elicit.Warning, code elicit.WarningCode) bool {
+	for _, w := range ws {
+		if w.Code == code {
+			return true
+		}
+	}
+	return false
+}
+
+func checkWarningWords(t *testing.T, page, body, want string, proportion bool) {
+	t.Helper()
+	if !strings.Contains(body, htmlEscape(want)) {
+		t.Errorf("%s lacks %q", page, want)
+	}
+	for _, ascii := range []string{"alpha+beta", "(alpha ", " beta 0", " beta 1"} {
+		if strings.Contains(body, ascii) {
+			t.Errorf("%s writes %q", page, ascii)
+		}
+	}
+	if !proportion && strings.Contains(body, "observed trials") {
+		t.Errorf("%s speaks of observed trials on a question that is not a proportion", page)
+	}
+}
