@@ -94,9 +94,12 @@ func (r quickResult) weightWords() string {
 	if r.proportion() {
 		return worthWords(r.Worth)
 	}
-	return "α + β = " + fv(r.Worth.Trials) + ": the larger it is, the narrower the prior. " +
-		"It is not a number of trials here; that reading holds only for a proportion on 0 to 1."
+	return "α + β = " + fv(r.Worth.Trials) + ". " + alphaBetaHint
 }
+
+// alphaBetaHint says what α + β tells on a scale other than [0, 1].
+const alphaBetaHint = "α + β says how concentrated the prior is: the larger, the narrower. " +
+	"It is not a number of trials here; that reading holds only for a proportion on 0 to 1."
 
 // quickView is the quick-priors page.
 type quickView struct {

@@ -31,13 +31,13 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 	}{
 		{"proportion, interval", qs[0], "&construction=interval&c_low=0.03&c_high=0.12&c_coverage=0.9",
 			elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1},
-			[]string{"imagined trials</td>"}, []string{"α + β ("}},
+			[]string{"imagined trials</td>"}, []string{"<th scope=\"row\">α + β</th>", alphaBetaHint}},
 		{"proportion, mean and SD", qs[0], "&construction=mean_sd&c_mean=0.1&c_sd=0.05",
 			elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 0.1, SD: 0.05, Upper: 1},
 			[]string{"as much information as "}, []string{"α + β ="}},
 		{"days, interval", days, "&construction=interval&c_low=3&c_high=12&c_coverage=0.9",
 			elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 3, High: 12, Coverage: 0.9, Upper: 30},
-			[]string{"α + β (the larger, the narrower)"}, []string{"trials"}},
+			[]string{"<th scope=\"row\">α + β</th>", alphaBetaHint}, []string{"imagined trials", "observed trial", "Worth"}},
 		{"days, mean and SD", days, "&construction=mean_sd&c_mean=8&c_sd=3",
 			elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 8, SD: 3, Upper: 30},
 			[]string{"It is not a number of trials here"}, []string{"imagined trials", "observed trial"}},
@@ -55,7 +55,7 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 		sum := fv(con.Dist.Alpha + con.Dist.Beta.Beta)
 		if c.q.ID == days.ID {
 			if c.in.Method == elicit.MethodMeanSD {
-				c.want = append(c.want, "α + β = "+sum+":")
+				c.want = append(c.want, "α + β = "+sum+". ")
 			} else {
 				c.want = append(c.want, `<td class="num">`+sum+"</td>")
 			}
