@@ -15,7 +15,7 @@ import (
 var (
 	alphaValue   = regexp.MustCompile(`\balpha ([0-9])`)
 	betaValue    = regexp.MustCompile(`\bbeta ([0-9])`)
-	trialsWorth  = regexp.MustCompile(`worth about (\S+) observed trials \(alpha\+beta above (\S+)\)`)
+	trialsWorth  = regexp.MustCompile(`is worth about (\S+) observed trials \(alpha\+beta above (\S+)\)`)
 	greekShapes  = strings.NewReplacer("alpha+beta", "α + β", "alpha + beta", "α + β")
 	shapeWarning = map[string]bool{string(elicit.WarnUShaped): true, string(elicit.WarnJShaped): true}
 )

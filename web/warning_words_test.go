@@ -43,7 +43,7 @@ func TestWarningsWriteAlphaAndBeta(t *testing.T) {
 		sum := strconv.FormatFloat(fit.Dist.Alpha+fit.Dist.Beta.Beta, 'f', 0, 64)
 		want := "worth about " + sum + " observed trials (α + β above " + strconv.Itoa(elicit.NearCertaintyESS) + ")"
 		if !c.q.IsProportion() {
-			want = "has α + β of about " + sum + " (above " + strconv.Itoa(elicit.NearCertaintyESS) + ")"
+			want = "prior has α + β of about " + sum + " (above " + strconv.Itoa(elicit.NearCertaintyESS) + ")"
 		}
 		_, body := h.get(questionPath(ws.ID, c.q.ID))
 		checkWarningWords(t, "panel Q"+strconv.Itoa(c.q.Position), body, want, c.q.IsProportion())
@@ -78,7 +78,7 @@ func TestWarningsWriteAlphaAndBeta(t *testing.T) {
 		case hasCode(con.Warnings, elicit.WarnNearCertainty) && c.q.IsProportion():
 			want = "worth about " + strconv.FormatFloat(con.Dist.Alpha+con.Dist.Beta.Beta, 'f', 0, 64) + " observed trials (α + β above"
 		case hasCode(con.Warnings, elicit.WarnNearCertainty):
-			want = "has α + β of about " + strconv.FormatFloat(con.Dist.Alpha+con.Dist.Beta.Beta, 'f', 0, 64) + " (above"
+			want = "prior has α + β of about " + strconv.FormatFloat(con.Dist.Alpha+con.Dist.Beta.Beta, 'f', 0, 64) + " (above"
 		default:
 			t.Fatalf("%s: the test's construction draws no warning to check", c.query)
 		}
