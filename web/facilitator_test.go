@@ -529,7 +529,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 		"True value 0.0413 shown to the experts.", "True value changed to 0.0415",
 		"Ole Brandt&#39;s private link stopped working.",
 		"Calibration question, asked as quantiles at 25%, 50%, 75%.",
-		"<td>Ole Brandt</td>", // the revocation applies to him
+		`<td data-label="Applies to">Ole Brandt</td>`, // the revocation applies to him
 	}
 	_, report := h.get(wp + "/report")
 	if !strings.Contains(report, "Pool weights in force: weights set by the facilitator, since ") || !strings.Contains(report, "UTC: “Ole is overconfident (invented)”.") {
