@@ -147,7 +147,7 @@ func Construct(in ConstructionInput) (Construction, error) {
 	if err != nil {
 		return Construction{}, err
 	}
-	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d)}
+	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d, in.Lower == 0 && in.Upper == 1)}
 	if in.Method.IsInterval() {
 		c.BelowLow = d.CDF(unit(in.Low))
 		c.AboveHigh = d.Survival(unit(in.High))
@@ -207,24 +207,23 @@ func (c Construction) Describe() string {
 // constructionWarnings flags a constructed Beta that is U-shaped (α and β
 // below 1), J-shaped (one of them below 1) or worth more than
 // NearCertaintyESS trials, as a fit's warnings do, in words for whoever
-// set the prior.
-func constructionWarnings(d Beta) []Warning {
+// set the prior; proportion says the bounds are [0, 1] (weightWords).
+func constructionWarnings(d Beta, proportion bool) []Warning {
 	w := []Warning{}
 	a, b := d.Alpha, d.Beta
 	switch {
 	case a < 1 && b < 1:
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"This prior is U-shaped (alpha %.3g and beta %.3g are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", a, b)})
+			"This prior is U-shaped (α = %.3g and β = %.3g are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", a, b)})
 	case a < 1:
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (alpha %.3g is below 1): its density rises without limit towards the lower bound.", a)})
+			"This prior is J-shaped (α = %.3g is below 1): its density rises without limit towards the lower bound.", a)})
 	case b < 1:
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (beta %.3g is below 1): its density rises without limit towards the upper bound.", b)})
+			"This prior is J-shaped (β = %.3g is below 1): its density rises without limit towards the upper bound.", b)})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
-		w = append(w, Warning{WarnNearCertainty, fmt.Sprintf(
-			"This prior is worth about %.0f observed trials (alpha+beta above %d): it implies near-certainty. Check that this much certainty is meant.", ess, NearCertaintyESS)})
+		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})
 	}
 	return w
 }

@@ -112,6 +112,16 @@ func FitQuantiles(j Judgement) (Fit, error) {
 	return f, nil
 }
 
+// weightWords says how much a Beta whose α + β is ess weighs, for
+// WarnNearCertainty: as observed trials for a proportion on [0, 1], and
+// as α + β itself on other bounds, where trials mean nothing.
+func weightWords(ess float64, proportion bool) string {
+	if proportion {
+		return fmt.Sprintf("is worth about %.0f observed trials (α + β above %d)", ess, NearCertaintyESS)
+	}
+	return fmt.Sprintf("has α + β of about %.0f (above %d)", ess, NearCertaintyESS)
+}
+
 // tailWarning is WarnTailMisfit for the stated outer point whose fitted
 // tail chance is furthest, as a ratio, from the stated one, if that ratio
 // exceeds TailRatioLimit. resid[i] is F(values[i]) − probs[i].
@@ -193,7 +203,7 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 			f.Percentiles[k] = d.quantileNear(p, f.Fitted[near])
 		}
 	}
-	f.Warnings = fitWarnings(d.Beta, f.MaxProbError)
+	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.Lower == 0 && d.Upper == 1)
 	return f
 }
 
@@ -231,28 +241,28 @@ func (d ScaledBeta) quantileNear(p, x0 float64) float64 {
 	return d.Lower + d.width()*c.quantileFrom(p, u)
 }
 
-// fitWarnings applies the warning rules to a fitted Beta.
-func fitWarnings(d Beta, maxErr float64) []Warning {
+// fitWarnings applies the warning rules to a fitted Beta; proportion says
+// its bounds are [0, 1] (weightWords).
+func fitWarnings(d Beta, maxErr float64, proportion bool) []Warning {
 	w := []Warning{}
 	a, b := d.Alpha, d.Beta
 	switch {
 	case a < 1 && b < 1:
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"The fitted density is U-shaped (alpha %.3g and beta %.3g are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", a, b)})
+			"The fitted density is U-shaped (α = %.3g and β = %.3g are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", a, b)})
 	case a < 1:
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (alpha %.3g is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", a)})
+			"The fitted density is J-shaped (α = %.3g is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", a)})
 	case b < 1:
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (beta %.3g is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", b)})
+			"The fitted density is J-shaped (β = %.3g is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", b)})
 	}
 	if maxErr > PoorFitThreshold {
 		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(
 			"The fitted Beta misses one of the stated probabilities by %.3f (more than %.2f): no single Beta matches these answers well. Show the expert the fit and ask whether they want to revise.", maxErr, PoorFitThreshold)})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
-		w = append(w, Warning{WarnNearCertainty, fmt.Sprintf(
-			"The fitted prior is worth about %.0f observed trials (alpha+beta above %d): it implies near-certainty about the value. Check that the expert really is this sure.", ess, NearCertaintyESS)})
+		w = append(w, Warning{WarnNearCertainty, "The fitted prior " + weightWords(ess, proportion) + ": it implies near-certainty about the value. Check that the expert really is this sure."})
 	}
 	return w
 }

@@ -201,7 +201,7 @@ func TestFitWarningRules(t *testing.T) {
 		{500, 500.5, 0, []WarningCode{WarnNearCertainty}},
 	}
 	for _, c := range cases {
-		w := fitWarnings(Beta{c.a, c.b}, c.maxErr)
+		w := fitWarnings(Beta{c.a, c.b}, c.maxErr, true)
 		got := warningCodes(Fit{Warnings: w})
 		if len(got) != len(c.want) {
 			t.Errorf("Beta(%g,%g) err %g: %v, want %v", c.a, c.b, c.maxErr, w, c.want)

@@ -346,9 +346,9 @@ func sheetPage(v sheetView) templ.Component {
 							return templ_7745c5c3_Err
 						}
 						var templ_7745c5c3_Var19 string
-						templ_7745c5c3_Var19, templ_7745c5c3_Err = templ.JoinStringErrs(fitWarningWords(w, row.Question.IsProportion()))
+						templ_7745c5c3_Var19, templ_7745c5c3_Err = templ.JoinStringErrs(w.Message)
 						if templ_7745c5c3_Err != nil {
-							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_sheet.templ`, Line: 64, Col: 64}
+							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_sheet.templ`, Line: 64, Col: 26}
 						}
 						_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var19))
 						if templ_7745c5c3_Err != nil {
