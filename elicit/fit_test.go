@@ -139,7 +139,7 @@ func TestFitWarnings(t *testing.T) {
 }
 
 // TestTailWarningRule checks the tail rule's threshold and sides directly:
-// a fitted tail chance of half or double the stated one passes, beyond
+// a fitted tail chance of a third or three times the stated one passes, beyond
 // that it is reported, on either side, for outer points only (a tail
 // chance of at most TailPointMax).
 func TestTailWarningRule(t *testing.T) {
@@ -151,11 +151,11 @@ func TestTailWarningRule(t *testing.T) {
 		words string
 	}{
 		{"exact", []float64{0, 0, 0}, false, ""},
-		{"lower tail halved", []float64{-0.025, 0, 0}, false, ""},
-		{"lower tail under half", []float64{-0.0251, 0, 0}, true, "below 0.1, where the expert put 5%: about 2.0 times less"},
-		{"lower tail doubled", []float64{0.05, 0, 0}, false, ""},
-		{"lower tail over double", []float64{0.0501, 0, 0}, true, "more"},
-		{"upper tail under half", []float64{0, 0, 0.0251}, true, "above 0.3"},
+		{"lower tail at a third", []float64{-0.0333, 0, 0}, false, ""},
+		{"lower tail under a third", []float64{-0.0334, 0, 0}, true, "below 0.1, where the expert put 5%: about 3.0 times less"},
+		{"lower tail trebled", []float64{0.0999, 0, 0}, false, ""},
+		{"lower tail over treble", []float64{0.1001, 0, 0}, true, "more"},
+		{"upper tail under a third", []float64{0, 0, 0.0334}, true, "above 0.3"},
 		{"upper tail gone", []float64{0, 0, 0.05}, true, "almost none (under 0.0001%) of the chance above 0.3, where the expert put 5%: over 1000 times less"},
 		{"median off by a ratio", []float64{0, 0.3, 0}, false, ""},
 	}
@@ -169,6 +169,11 @@ func TestTailWarningRule(t *testing.T) {
 	// quartile (0.25) is one, a 30% point is not.
 	if _, ok := tailWarning([]float64{0.25, 0.75}, []float64{0.1, 0.3}, []float64{-0.2, 0}); !ok {
 		t.Error("a quartile whose fitted tail is a fifth of the stated one is not reported")
+	}
+	// An ordinary right-skewed judgement is not flagged: 0.06/0.15/0.35
+	// at 5/50/95 leaves 2.1% above 0.35 (2.4 times less than stated).
+	if f, err := FitQuantiles(Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.06, 0.15, 0.35}, Lower: 0, Upper: 1}); err != nil || len(f.Warnings) != 0 {
+		t.Errorf("0.06/0.15/0.35: %v %v", f.Warnings, err)
 	}
 	if _, ok := tailWarning([]float64{0.3, 0.7}, []float64{0.1, 0.3}, []float64{-0.2, 0}); ok {
 		t.Error("a 30% point is reported as an outer point")

@@ -478,7 +478,7 @@ func reportPage(v reportView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = eventTable(v.logView()).Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = eventTable(v.logView(), false).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
