@@ -17,8 +17,8 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("backup", stderr)
 	dbPath := fs.String("db", "", "database `file` to copy")
 	out := fs.String("out", "", "new `file` for the copy; must not exist")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	if *out == "" {
 		return fail(stderr, "backup", badInput("out", "a file for the copy is required"))

@@ -262,6 +262,8 @@ func TestScriptingBadInput(t *testing.T) {
 		{"update beta subnormal", []string{"update", "--alpha", "2", "--beta", "1e-320", "--successes", "0", "--trials", "0"}, "", []string{"beta", string(elicit.RuleShapeRange)}},
 		{"update posterior beyond envelope", []string{"update", "--alpha", "1", "--beta", "9500000", "--successes", "0", "--trials", "1000000"}, "", []string{"trials", string(elicit.RulePosteriorRange)}},
 		{"update level too close to 1", []string{"update", "--alpha", "1", "--beta", "1", "--successes", "0", "--trials", "10", "--level", "0.99999999999999"}, "", []string{"level", string(elicit.RuleCentralTails)}},
+		{"a flag given twice", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12", "--probs", "0.1,0.5,0.9"}, "", []string{"--probs", "given more than once"}},
+		{"a flag given twice, once with =", []string{"update", "--alpha=1", "--beta", "1", "--successes", "0", "--trials", "10", "-alpha", "2"}, "", []string{"--alpha", "given more than once"}},
 		{"prior coverage too close to 1", []string{"prior", "--interval", "0.03,0.12", "--coverage", "0.9999999999999999"}, "", []string{"coverage", string(elicit.RuleCentralTails)}},
 		{"plan level too close to 1", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.04", "--level", "0.9999999999999999"}, "", []string{"level", string(elicit.RuleCentralTails)}},
 		{"plan confidence subnormal", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--threshold", "0.08", "--direction", "below", "--confidence", "1e-320"}, "", []string{"confidence", string(elicit.RuleProbRange)}},
@@ -515,6 +517,24 @@ func TestWidestBoundsOnTheCommandLine(t *testing.T) {
 		decodeJSON(t, out, &v)
 		if !(v.SD > 1e298 && v.SD < 2e300) {
 			t.Errorf("%v: sd %v", c.args, v.SD)
+		}
+	}
+}
+
+// A negative number after a flag is its value, not a flag: giving the
+// same negative value to two flags is no repetition.
+func TestRepeatedFlagReadsNegativeNumbersAsValues(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--lower", "-1", "--upper", "-1"}, ""},
+		{[]string{"--values", "-.5,-.2", "--probs", "0.1,0.9", "--values", "1"}, "values"},
+		{[]string{"--db", "x.db", "--", "--db"}, ""},
+		{[]string{"-h", "--h"}, "h"},
+	} {
+		if got := repeatedFlag(c.args); got != c.want {
+			t.Errorf("%v: %q, want %q", c.args, got, c.want)
 		}
 	}
 }

@@ -23,8 +23,8 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	format := fs.String("format", "json", "json (the whole record), csv (one row per revision) or priors (one row per agreed prior, CSV)")
 	question := fs.Int64("question", 0, "export only this question `ID`")
 	out := fs.String("out", "", "write to `file` instead of standard output")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	if *format != "json" && *format != "csv" && *format != "priors" {
 		return fail(stderr, "export", badInput("format", "must be json, csv or priors, got %q", *format))

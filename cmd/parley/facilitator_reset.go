@@ -23,8 +23,8 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 	addr := fs.String("addr", "127.0.0.1:8080", "`host:port` the server listens on, for the printed address")
 	base := fs.String("base-url", "", "the server's address as browsers reach it, e.g. https://192.168.1.20:8443 when it serves TLS (default: http:// and --addr)")
 	keep := fs.Bool("keep-signed-in", false, "leave browsers already signed in signed in (default: sign them all out)")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	printed := "http://" + *addr
 	if *base != "" {

@@ -21,8 +21,8 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("import", stderr)
 	dbPath := fs.String("db", "", "database `file` (created if missing)")
 	in := fs.String("in", "", "JSON record `file`, or - for standard input")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	if *dbPath == "" {
 		return fail(stderr, "import", badInput("db", "a database file is required"))

@@ -28,8 +28,8 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	in := fs.String("in", "", "answer sheet `file` (CSV), or - for standard input")
 	dryRun := fs.Bool("dry-run", false, "check the sheet and print what would be saved, without saving")
 	channel := fs.String("channel", string(workshop.ChannelFile), "how the judgements reached you: in_person, phone, paper_form, message or file")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	if fs.NArg() > 0 {
 		return fail(stderr, "import-answers", badInput(fs.Arg(0), "unexpected argument"))

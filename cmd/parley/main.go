@@ -13,6 +13,7 @@ import (
 	"os"
 	"sort"
 	"strings"
+	"unicode"
 )
 
 // subcommand is one `parley NAME` command. It returns the exit status.
@@ -52,7 +53,39 @@ func dispatch(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		fmt.Fprintf(stderr, "parley: unknown command %q (run `parley help`)\n", name)
 		return 2
 	}
+	if f := repeatedFlag(args); f != "" {
+		return fail(stderr, name, badInput(f, "given more than once (each flag takes one value; the web refuses a field sent twice the same way)"))
+	}
 	return c.run(args, stdin, stdout, stderr)
+}
+
+// repeatedFlag is the name of the first flag given twice in args, or "".
+// Go's flag package keeps the last value silently; a script that sets
+// --probs twice has a mistake in it. Flags are read up to "--"; a value
+// that starts with a dash but not a letter (a negative number) is no
+// flag.
+func repeatedFlag(args []string) string {
+	seen := map[string]bool{}
+	for _, a := range args {
+		if a == "--" {
+			break
+		}
+		if !strings.HasPrefix(a, "-") {
+			continue
+		}
+		n := strings.TrimLeft(a, "-")
+		if i := strings.IndexByte(n, '='); i >= 0 {
+			n = n[:i]
+		}
+		if n == "" || !unicode.IsLetter(rune(n[0])) {
+			continue
+		}
+		if seen[n] {
+			return n
+		}
+		seen[n] = true
+	}
+	return ""
 }
 
 func usage(w io.Writer) {

@@ -224,3 +224,17 @@ func TestPriorPlanBinary(t *testing.T) {
 		}
 	}
 }
+
+// The text output gives a prior's weight as imagined trials only for a
+// proportion on [0, 1]; on other bounds it gives α + β, since trials mean
+// nothing there.
+func TestPriorWorthWordsFollowTheBounds(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "prior", "--mean", "0.2", "--sd", "0.1")
+	if code != 0 || !strings.Contains(out, "imagined trials") {
+		t.Errorf("proportion: exit %d %s\n%s", code, errOut, out)
+	}
+	code, out, errOut = runCLI(t, "", "prior", "--mean", "12", "--sd", "4", "--lower", "0", "--upper", "30")
+	if code != 0 || strings.Contains(out, "imagined trials") || !strings.Contains(out, "α + β = ") {
+		t.Errorf("days: exit %d %s\n%s", code, errOut, out)
+	}
+}

@@ -39,8 +39,8 @@ func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&c.tlsCert, "tls-cert", "", "TLS certificate `file` (with --tls-key)")
 	fs.StringVar(&c.tlsKey, "tls-key", "", "TLS private key `file` (with --tls-cert)")
 	fs.StringVar(&c.baseURL, "base-url", "", "address printed in links handed out, e.g. http://192.168.1.20:8080 (default: from --addr)")
-	if err := fs.Parse(args); err != nil {
-		return exitBadInput
+	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
+		return code
 	}
 	if fs.NArg() > 0 {
 		return fail(stderr, "serve", badInput("addr", "unexpected argument %q", fs.Arg(0)))

@@ -323,3 +323,23 @@ func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
 		})
 	}
 }
+
+// The store commands read their flags as the scripting commands do: a
+// bad flag is one line on stderr naming it, exit 2, and -h prints the
+// flags on stdout with exit 0 (they printed Go's message and the whole
+// usage, and -h exited 2).
+func TestStoreCommandsReadFlagsInOneLine(t *testing.T) {
+	for _, cmd := range []string{"export", "backup", "import", "import-answers", "facilitator-reset", "serve"} {
+		code, out, errs := run(cmd, "--no-such-flag")
+		if code != exitBadInput || strings.Count(strings.TrimSpace(errs), "\n") != 0 || !strings.Contains(errs, "no-such-flag") || out != "" {
+			t.Errorf("%s --no-such-flag: exit %d, stderr %q, stdout %q", cmd, code, errs, out)
+		}
+		if code, out, errs := run(cmd, "-h"); code != exitOK || !strings.Contains(out, "-db") && cmd != "serve" || errs != "" {
+			t.Errorf("%s -h: exit %d, stdout %q, stderr %q", cmd, code, out, errs)
+		}
+	}
+	code, _, errs := run("export", "--db", "x.db", "--workshop", "abc")
+	if code != exitBadInput || strings.Count(strings.TrimSpace(errs), "\n") != 0 || !strings.Contains(errs, "workshop") {
+		t.Errorf("export --workshop abc: exit %d, %q", code, errs)
+	}
+}
