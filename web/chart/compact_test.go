@@ -111,3 +111,28 @@ func TestCompactDrawingsStayInsideTheirBox(t *testing.T) {
 }
 
 func ptr(v float64) *float64 { return &v }
+
+// The true value's label stays inside the strip at the largest size a
+// stylesheet gives it (16px on the wide strip; 17px allowed), even when
+// the true value is the lowest or the highest number on the axis: the
+// projector's view cut it to "rue value 0.0413" when it was centred on
+// its line with room measured for 13px.
+func TestTruthLabelStaysInsideTheStrip(t *testing.T) {
+	for _, truth := range []float64{0.0413, 0.3, 0.17} {
+		c := MedianStrip(MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1,
+			Labels: []string{"Expert A", "Expert B", "Expert C"}, Medians: []float64{0.0413, 0.2, 0.3}, Truth: ptr(truth)})
+		for _, lay := range []string{"wide", "compact"} {
+			html := renderLayout(t, c, lay)
+			pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
+			ns := parse(t, pic)
+			w, _ := strconv.ParseFloat(strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])[2], 64)
+			label := find(ns, "text", "truth-label")[0]
+			x, _ := strconv.ParseFloat(label.Attr["x"], 64)
+			width := labelWidth(label.Text) * 17 / 13
+			left := map[string]float64{"start": x, "middle": x - width/2, "end": x - width}[label.Attr["text-anchor"]]
+			if left < 0 || left+width > w {
+				t.Errorf("truth %v, %s: label %q from %.1f to %.1f in a strip %.0f wide", truth, lay, label.Text, left, left+width, w)
+			}
+		}
+	}
+}

@@ -38,6 +38,7 @@ type medianDrawing struct {
 	MidX                   string
 	Dots                   []stripDot
 	Truth                  *stripDot
+	TruthAnchor            string // the label's text-anchor: start, middle or end
 	TruthY1, TruthY2       string
 }
 
@@ -155,9 +156,20 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	if v.Truth != nil {
 		tx := f.px(*v.Truth)
 		label := "true value " + FormatValue(*v.Truth)
-		// Keep the label inside the picture.
-		half := labelWidth(label) / 2
-		lx := math.Max(half+2, math.Min(w-half-2, tx))
+		// Keep the label inside the picture at the largest size a
+		// stylesheet gives it (16px on the wide strip, and the projector's
+		// view scales the whole picture, not the label alone): labelWidth
+		// measures 13px, so this allows 17px. Near an edge the label is
+		// anchored to it.
+		half := labelWidth(label) * 17 / 13 / 2
+		lx, anchor := tx, "middle"
+		switch {
+		case tx-half < 2:
+			lx, anchor = 2, "start"
+		case tx+half > w-2:
+			lx, anchor = w-2, "end"
+		}
+		d.TruthAnchor = anchor
 		d.Truth = &stripDot{X: coord(tx), Label: label, LabelY: coord(stripTop - 18), Value: coord(lx)}
 		d.TruthY1, d.TruthY2 = coord(stripTop-12), coord(axisY)
 	}
