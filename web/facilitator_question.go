@@ -147,6 +147,10 @@ func parseQuestion(f *Form) workshop.Question {
 		} else if strings.TrimSpace(f.Value("true_value")) == "" {
 			f.set("true_value", string(elicit.RuleRequired)+" for a calibration question")
 		}
+	} else if strings.TrimSpace(f.Value("true_value")) != "" {
+		// Not dropped in silence: a true value belongs to a calibration
+		// question only.
+		f.set("true_value", "applies only to a calibration question: tick “calibration question” or clear it")
 	}
 	return q
 }

@@ -3,6 +3,7 @@ package web
 import (
 	"errors"
 	"net/http"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -29,6 +30,15 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		wt.ByExpert = map[int64]float64{}
+		known := map[string]bool{}
+		for _, e := range experts {
+			known[weightField(e.ID)] = true
+		}
+		for k := range f.Values {
+			if strings.HasPrefix(k, "weights[") && !known[k] {
+				f.set("", k+": no expert of this workshop has this number; reload the page and set the weights again")
+			}
+		}
 		for _, e := range experts {
 			if e.Revoked {
 				continue

@@ -7,6 +7,7 @@ import (
 	"net/http"
 	"sort"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -301,6 +302,10 @@ func planStudy(ctx context.Context, p planView) planView {
 			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
 		}
 		p.Size = &g
+	} else if strings.TrimSpace(f.Value("woc_trim")) != "" {
+		// As on the command line: the worst outcome's trim belongs to
+		// a sample size, which needs its interval's length.
+		f.set("woc_trim", "applies to the sample size: give the interval's length too")
 	}
 	if !f.OK() {
 		return p
