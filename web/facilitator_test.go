@@ -160,6 +160,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		{"bin edges short of the bounds", wp + "/questions", question(map[string]string{"format": "chips", "bin_edges": "0.1 0.5 1", "chips": "10"}), "bin_edges", "0.1 0.5 1"},
 		{"calibration without true value", wp + "/questions", question(map[string]string{"calibration": "on"}), "true_value", "What share will fail?"},
 		{"true value outside bounds", wp + "/questions", question(map[string]string{"calibration": "on", "true_value": "1.5"}), "true_value", "1.5"},
+		{"true value without the calibration box", wp + "/questions", question(map[string]string{"true_value": "0.5"}), "true_value", "0.5"},
 		{"expert without name", wp + "/experts", url.Values{"name": {""}, "affiliation": {"kept affiliation"}}, "name", "kept affiliation"},
 		{"expert name with control character", wp + "/experts", url.Values{"name": {"a\x07b"}}, "name", ""},
 		{"round action unknown", wp + "/round", url.Values{"action": {"skip"}}, "action", ""},

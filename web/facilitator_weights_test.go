@@ -92,3 +92,23 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 		}
 	}
 }
+
+// A weight for an expert the workshop does not have is refused, not
+// dropped: a stale page or a mistyped script would otherwise set weights
+// it did not mean.
+func TestWeightForAnUnknownExpertRefused(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	before := h.counts(ws.ID)
+	form := url.Values{"scheme": {"custom"}, "reason": {"A stale page (invented)"}, "weights[99999]": {"1"}}
+	for _, e := range es {
+		form.Set(weightField(e.ID), "1")
+	}
+	res, body := h.post(qp+"/weights", form)
+	if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "weights[99999]: no expert of this workshop has this number") {
+		t.Errorf("unknown expert's weight: %d", res.StatusCode)
+	}
+	if after := h.counts(ws.ID); after != before {
+		t.Errorf("saved: %v, then %v", before, after)
+	}
+}

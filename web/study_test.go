@@ -170,6 +170,7 @@ func TestStudyPlanRefusesBadInput(t *testing.T) {
 		{"trials=50&length=0.05&level=0.95&criterion=alc&woc_trim=0.05", "woc_trim"},
 		{"trials=50&length=0.05&level=0.95&criterion=woc&woc_trim=1", "woc_trim"},
 		{"trials=50&length=0.000001&level=0.95&criterion=woc", "length"}, // no n up to 100,000 meets it
+		{"trials=50&woc_trim=0.05", "woc_trim"},                          // a trim without a sample size is not dropped in silence
 	} {
 		res, body := h.get(sp + "?" + c.query)
 		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) {
