@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"strconv"
 )
 
 // Limits of every quick construction: α and β in [MinPriorShape,
@@ -197,9 +198,9 @@ func (c Construction) Describe() string {
 	case MethodMeanSD:
 		return fmt.Sprintf("mean %g and standard deviation %g%s by the method of moments", in.Mean, in.SD, scale)
 	case MethodIntervalMoments:
-		return fmt.Sprintf("central %g%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %.4g%%", 100*in.Coverage, in.Low, in.High, scale, 100*c.CoverageAchieved)
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %.4g%%", percentOf(in.Coverage), in.Low, in.High, scale, 100*c.CoverageAchieved)
 	case MethodIntervalQuantiles:
-		return fmt.Sprintf("central %g%% interval [%g, %g]%s by exact quantile match; it holds %.4g%%", 100*in.Coverage, in.Low, in.High, scale, 100*c.CoverageAchieved)
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %.4g%%", percentOf(in.Coverage), in.Low, in.High, scale, 100*c.CoverageAchieved)
 	}
 	return string(in.Method)
 }
@@ -227,3 +228,8 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 	}
 	return w
 }
+
+// percentOf writes a probability as a percentage to 12 significant
+// figures: 0.99999 is "99.999", not 100·0.99999 = 99.99900000000001, and
+// the largest coverage taken (1 − 2e-12) is still told from 100.
+func percentOf(p float64) string { return strconv.FormatFloat(100*p, 'g', 12, 64) }

@@ -354,3 +354,18 @@ func TestConstructWarnings(t *testing.T) {
 		}
 	}
 }
+
+// A construction's description writes its coverage without
+// floating-point noise: 100·0.99999 is 99.99900000000001 in float64.
+func TestDescribeWritesTheCoverageCleanly(t *testing.T) {
+	c, err := Construct(ConstructionInput{Method: MethodIntervalMoments, Low: 0.01, High: 0.99, Coverage: 0.99999, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if d := c.Describe(); !strings.Contains(d, "central 99.999% interval") {
+		t.Errorf("description %q", d)
+	}
+	if got := percentOf(1 - 2e-12); got != "99.9999999998" {
+		t.Errorf("the largest coverage is written %q", got)
+	}
+}

@@ -66,6 +66,11 @@ func parseConfidence(raw string) (float64, error) {
 		return 0, err
 	}
 	if !hadSign && v > 0 && v <= 1 {
+		if v < 0.01 {
+			// No sensible percentage to suggest (1e-320 would read
+			// "did you mean 1e-318%?").
+			return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent}
+		}
 		return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent, Detail: chart.FormatValue(v * 100)}
 	}
 	return v / 100, nil
@@ -230,6 +235,9 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 	case rulePercentHere:
 		return "This question's values run " + between + ", not as percentages: please type the value without %."
 	case ruleConfidencePercent:
+		if ie.Detail == "" {
+			return "Type the confidence as a percentage, such as 80 for 80%; you typed " + typed + "."
+		}
 		return "Type the confidence as a percentage: did you mean " + ie.Detail + "%?"
 	case elicit.RuleValueInBounds:
 		msg := "Must be " + between + "; you typed " + typed + "."

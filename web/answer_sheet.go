@@ -212,8 +212,15 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 	}
 	// Each cell by the form's own number rules, the answer by elicit's.
 	var a workshop.Answer
+	// A value may carry a % sign on a proportion, as on the form; the
+	// answer is kept as typed in percent when every value was.
+	typed, count := 0, 0
 	num := func(c string) (float64, error) {
-		v, err := input.Number(c, cell(c))
+		v, pct, err := parseAnswerNumber(c, cell(c), q, false)
+		count++
+		if pct {
+			typed++
+		}
 		return v, underColumn(line, c, err)
 	}
 	var err error
@@ -222,12 +229,17 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		for _, f := range []struct {
 			c string
 			v *float64
-		}{{"lowest", &a.Lowest}, {"highest", &a.Highest}, {"best", &a.Best}, {"confidence", &a.Confidence}} {
+		}{{"lowest", &a.Lowest}, {"highest", &a.Highest}, {"best", &a.Best}} {
 			if *f.v, err = num(f.c); err != nil {
 				return row, err
 			}
 		}
-		a.Confidence /= 100 // in percent, as on the expert's form
+		// In percent, as on the expert's form, with or without its sign.
+		conf, err := input.Number("confidence", strings.TrimSuffix(strings.TrimSpace(cell("confidence")), "%"))
+		if err != nil {
+			return row, underColumn(line, "confidence", err)
+		}
+		a.Confidence = conf / 100
 	case workshop.FormatChips:
 		a.Counts = make([]int, len(mine))
 		for i, c := range mine {
@@ -247,6 +259,7 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 			}
 		}
 	}
+	a.Percent = isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
 	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}

@@ -286,3 +286,37 @@ func TestAnswerFieldIsOneTheFormShows(t *testing.T) {
 		}
 	}
 }
+
+// A value in a sheet may carry a % sign on a proportion, as on the
+// expert's form, and the answer is then kept as typed in percent; on a
+// question that is not a proportion the sign is refused, naming the
+// column.
+func TestAnswerSheetTakesPercentagesAsTheFormDoes(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,lowest,highest,best,confidence\n" +
+		"Ada Quell,Q1,1%,4%,12%,,,,\n" +
+		"Ada Quell,Q2,,,,5%,30%,12%,80%\n"
+	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if a := rows[0].Answer; !a.Percent || a.Values[0] != 0.01 || a.Values[2] != 0.12 {
+		t.Errorf("quantiles in percent read as %+v", a)
+	}
+	if a := rows[1].Answer; !a.Percent || a.Lowest != 0.05 || a.Best != 0.12 || a.Confidence != 0.8 {
+		t.Errorf("interval in percent read as %+v", a)
+	}
+	// Mixed: kept as decimals, each value read as typed.
+	rows, err = ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.01,4%,0.12\n"), g.qs, g.experts)
+	if err != nil || rows[0].Answer.Percent || rows[0].Answer.Values[1] != 0.04 {
+		t.Errorf("mixed row: %+v %v", rows, err)
+	}
+	days := workshop.Question{ID: 9999, WorkshopID: g.ws.ID, Position: len(g.qs) + 1, Wording: "Days to repair a tank? (invented)",
+		Quantity: "repair time", Units: "days", Lower: 0, Upper: 60, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	qs := append(append([]workshop.Question(nil), g.qs...), days)
+	_, err = ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q"+strconv.Itoa(days.Position)+",10,20%,30\n"), qs, g.experts)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || !strings.Contains(ie.Field, "row 2, column q50") || ie.Rule != rulePercentHere {
+		t.Errorf("%% on a question off [0, 1]: %v", err)
+	}
+}

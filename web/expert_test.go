@@ -316,6 +316,8 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", "Please fill this in.", "0.05"},
 		{"confidence over 100%", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"120"}},
 			"f-confidence", "Must be more than 0% and less than 100%; you typed 120.", "120"},
+		{"confidence as a tiny fraction", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"1e-320"}},
+			"f-confidence", "Type the confidence as a percentage, such as 80 for 80%; you typed 1e-320.", "1e-320"},
 		{"confidence as a fraction", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"0.8"}},
 			"f-confidence", "Type the confidence as a percentage: did you mean 80%?", "0.8"},
 		{"a percentage on a question that is not a proportion", g.qs, url.Values{"values[0]": {"20%"}, "values[1]": {"30"}, "values[2]": {"40"}},

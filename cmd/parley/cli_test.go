@@ -266,6 +266,7 @@ func TestScriptingBadInput(t *testing.T) {
 		{"a flag given twice, once with =", []string{"update", "--alpha=1", "--beta", "1", "--successes", "0", "--trials", "10", "-alpha", "2"}, "", []string{"--alpha", "given more than once"}},
 		{"prior coverage too close to 1", []string{"prior", "--interval", "0.03,0.12", "--coverage", "0.9999999999999999"}, "", []string{"coverage", string(elicit.RuleCentralTails)}},
 		{"plan level too close to 1", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.04", "--level", "0.9999999999999999"}, "", []string{"level", string(elicit.RuleCentralTails)}},
+		{"plan trials above the limit", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "1000001"}, "", []string{"trials", "1 to 1000000, got 1000001"}},
 		{"plan confidence subnormal", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--threshold", "0.08", "--direction", "below", "--confidence", "1e-320"}, "", []string{"confidence", string(elicit.RuleProbRange)}},
 		{"pool huge and tiny shapes", []string{"pool"}, `{"experts":[{"alpha":1e300,"beta":1e300},{"alpha":1e-300,"beta":1e-300}]}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},
 		{"log pool alpha overflows", []string{"pool"}, `{"experts":[{"alpha":1e308,"beta":3},{"alpha":2,"beta":3}],"method":"log"}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},

@@ -9,6 +9,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 func init() {
@@ -178,12 +179,10 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	if err != nil {
 		return planOutput{}, err
 	}
-	n, err := count("trials", a.trials, elicit.MaxPredictiveTrials)
+	// A study has at least one trial: the range stated is 1 to the limit.
+	n, err := input.Whole("trials", a.trials, 1, elicit.MaxPredictiveTrials)
 	if err != nil {
 		return planOutput{}, err
-	}
-	if n < 1 {
-		return planOutput{}, &elicit.InputError{Field: "trials", Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("1 to %d, got %d", elicit.MaxPredictiveTrials, n)}
 	}
 	prior := elicit.Beta{Alpha: alpha, Beta: beta}
 	if err := prior.Validate(); err != nil {
