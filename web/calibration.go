@@ -48,7 +48,10 @@ type calibrationView struct {
 	Pending  int  // calibration questions still without a true value
 	Scored   int  // calibration questions the scores are computed on
 	Ready    bool // every calibration question scored has a true value
-	Probs    []float64
+	// Unshown counts the true values entered but not yet shown to the
+	// experts: the page scores on them, the report waits for the reveal.
+	Unshown int
+	Probs   []float64
 
 	AlphaForm *Form
 	Perf      *workshop.Performance
@@ -136,13 +139,23 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 			}
 		}
 		v.Seeds = append(v.Seeds, row)
+		if q.TrueValue != nil && !q.Revealed {
+			v.Unshown++
+		}
 	}
 	perf := map[int64]float64{}
 	if v.Ready && forms.alpha.OK() {
 		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
 			forms.alpha.Fail(err, nil)
-			v.PerfError = err.Error()
+			v.PerfError = "it failed; the details are in the server log"
+			var ie *elicit.InputError
+			if errors.As(err, &ie) {
+				// The rule in words, not the package's message.
+				v.PerfError = string(ie.Rule)
+			} else {
+				s.log.Error("classical model", "workshop", ws.ID, "err", err)
+			}
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()

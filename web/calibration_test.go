@@ -705,3 +705,21 @@ func TestSteadinessRerunErrorsInWords(t *testing.T) {
 		t.Errorf("the section shows the model's own words or not the reason:\n%s", b.String())
 	}
 }
+
+// Scores on true values the experts have not yet been shown are marked
+// provisional on the calibration page, since the report and the export
+// carry scores only once every true value is shown; after the reveal the
+// mark is gone.
+func TestScoresOnUnshownTruthsAreProvisional(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	_, body := p.h.get(p.path())
+	if !strings.Contains(body, `id="scores-table"`) || !strings.Contains(body, `id="scores-provisional"`) ||
+		!strings.Contains(body, htmlEscape("4 calibration questions' true values are not yet shown to the experts, so these scores are provisional")) {
+		t.Errorf("scores on unshown truths are not marked provisional")
+	}
+	p.enterTruths(t, true)
+	if _, body := p.h.get(p.path()); strings.Contains(body, `id="scores-provisional"`) {
+		t.Error("scores are still marked provisional after every true value is shown")
+	}
+}
