@@ -1277,7 +1277,7 @@ func poolSummary(v panelView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 101, "</p><table class=\"table table-compact\"><thead><tr><th scope=\"col\"></th><th scope=\"col\" class=\"num\">Mean</th><th scope=\"col\" class=\"num\">SD</th><th scope=\"col\" class=\"num\">5%</th><th scope=\"col\" class=\"num\">50%</th><th scope=\"col\" class=\"num\">95%</th></tr></thead> <tbody><tr><th scope=\"row\">Pool (mixture)</th><td class=\"num\">")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 101, "</p><table class=\"table table-compact\"><thead><tr><th scope=\"col\"></th><th scope=\"col\" class=\"num\">Mean</th><th scope=\"col\" class=\"num\">SD</th><th scope=\"col\" class=\"num\">5%</th><th scope=\"col\" class=\"num\">50%</th><th scope=\"col\" class=\"num\">95%</th></tr></thead> <tbody><tr><th scope=\"row\">Linear pool</th><td class=\"num\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
