@@ -39,6 +39,17 @@ func TestEntryPreviewNamesTheExpert(t *testing.T) {
 
 	_, frag := h.post(page+"/preview?fragment=1", form)
 	frag = html.UnescapeString(frag)
+	// The picture's key, table and caption name her too.
+	for _, want := range []string{"Priya Raman's stated values", "Priya Raman said", "fitted to Priya Raman's judgement"} {
+		if !strings.Contains(frag, want) {
+			t.Errorf("entry picture lacks %q", want)
+		}
+	}
+	for _, you := range []string{"your stated values", "you said", "below yours", "Your stated points"} {
+		if strings.Contains(frag, you) {
+			t.Errorf("entry picture says %q", you)
+		}
+	}
 	if i := strings.Index(frag, "<svg"); i > 0 {
 		frag = frag[:i]
 	}

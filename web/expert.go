@@ -705,6 +705,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 		Fit: chart.FitView{
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
+			Percent: percent && q.Format != workshop.FormatChips, Whose: sp.Name,
 		},
 	}
 	if q.Format != workshop.FormatChips {

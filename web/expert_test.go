@@ -770,3 +770,21 @@ func TestExpertToldWhenTheCurveMissesAnOuterValue(t *testing.T) {
 		t.Error("an ordinary judgement is told its curve misses an outer value")
 	}
 }
+
+// An expert who types percentages reads the fit's table in percentages,
+// as its sentences speak, not the same numbers as proportions.
+func TestExpertTypingPercentagesSeesThemInTheTable(t *testing.T) {
+	g := newExpertRig(t)
+	resp, body := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("3%", "7%", "16%"))
+	if resp.StatusCode != http.StatusOK {
+		t.Fatalf("preview: %d", resp.StatusCode)
+	}
+	for _, want := range []string{"<td>3%</td>", "<td>7%</td>", "<td>16%</td>"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the table lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "<td>0.03</td>") {
+		t.Error("the table writes the typed 3% as 0.03")
+	}
+}

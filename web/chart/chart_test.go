@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"context"
 	"fmt"
 	"math"
 	"strconv"
@@ -455,5 +456,49 @@ func TestPredictiveBarsAreBounded(t *testing.T) {
 	small, _ := elicit.PriorPredictive(elicit.Beta{Alpha: 3, Beta: 57}, 50)
 	if m := newPredictiveModel(PredictiveView{ID: "s", Trials: 50, PMF: small}); len(m.Drawings[0].Bars) > 51 || strings.Contains(m.Desc, "groups") {
 		t.Errorf("50 trials: %d bars, %q", len(m.Drawings[0].Bars), m.Desc)
+	}
+}
+
+// An expert who typed percentages sees the fit's table, its percentile
+// labels and its caption in percentages too, as the read-backs speak;
+// the facilitator entering someone's judgement sees it named as theirs.
+func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
+	d := sbeta(4.2, 17.9, 0, 1)
+	v := fitViewOf(d, Point{0.06, 0.05}, Point{0.18, 0.5}, Point{0.36, 0.95})
+	v.Quantity, v.Units = "failure share", ""
+	render := func(v FitView) string {
+		var b strings.Builder
+		if err := Fit(v).Render(context.Background(), &b); err != nil {
+			t.Fatal(err)
+		}
+		return b.String()
+	}
+	plain := render(v)
+	for _, want := range []string{"<td>0.06</td>", "median " + formatSig(d.Quantile(0.5), 3) + "<", "your stated values", "you said", "fitted chance below yours", "fitted to your judgement", "Your stated points"} {
+		if !strings.Contains(plain, want) {
+			t.Errorf("decimals: lacks %q", want)
+		}
+	}
+	v.Percent = true
+	pct := render(v)
+	for _, want := range []string{"<td>6%</td>", "<td>36%</td>", "median " + formatSig(100*d.Quantile(0.5), 3) + "%<", ">" + FormatPercent(d.Quantile(0.95)) + "</td>", "5% chance below 6%"} {
+		if !strings.Contains(pct, want) {
+			t.Errorf("percent: lacks %q", want)
+		}
+	}
+	if strings.Contains(pct, "<td>0.06</td>") {
+		t.Error("percent: the table still says 0.06")
+	}
+	v.Whose = "Priya Raman"
+	named := render(v)
+	for _, want := range []string{"Priya Raman&#39;s stated values", "Priya Raman said", "fitted chance below that", "fitted to Priya Raman&#39;s judgement", "Priya Raman&#39;s stated points"} {
+		if !strings.Contains(named, want) {
+			t.Errorf("on behalf: lacks %q", want)
+		}
+	}
+	for _, you := range []string{"your ", "you said", "Your ", "yours"} {
+		if strings.Contains(named, you) {
+			t.Errorf("on behalf: still says %q", you)
+		}
 	}
 }

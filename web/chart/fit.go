@@ -29,6 +29,34 @@ type FitView struct {
 	// them.
 	Fitted      []float64
 	FittedProbs []float64
+	// Percent says the expert typed percentages: the table, the
+	// percentile labels and the caption then write values as
+	// percentages, as the read-backs do (the axis keeps its scale).
+	Percent bool
+	// Whose is the expert's name when the picture shows someone else's
+	// judgement (the facilitator entering it for them); "" on the
+	// expert's own page, which speaks to "you".
+	Whose string
+}
+
+// value writes a value of the quantity as the expert typed it.
+func (v FitView) value(x float64) string {
+	if v.Percent {
+		return FormatPercent(x)
+	}
+	return FormatValue(x)
+}
+
+// whose is "your" on the expert's own page, else the expert's name with
+// "'s".
+func (v FitView) whose(capital bool) string {
+	switch {
+	case v.Whose != "":
+		return v.Whose + "'s"
+	case capital:
+		return "Your"
+	}
+	return "your"
 }
 
 // percentileProbs are the probabilities of FitView.Percentiles.
@@ -70,8 +98,11 @@ type fitModel struct {
 	Rows     []fitRow
 	Pcts     [3]string
 	Params   string
-	Units    string
-	Invalid  string // non-empty when the view cannot be drawn
+	// The words that name whose judgement it is: the key's, and the
+	// table's two headers.
+	KeyStated, SaidHeader, ChanceHeader string
+	Units                               string
+	Invalid                             string // non-empty when the view cannot be drawn
 }
 
 // Fit draws the density and CDF of one expert's fitted Beta with their
@@ -122,13 +153,17 @@ func newFitModel(v FitView) fitModel {
 		}
 		m.Rows = append(m.Rows, fitRow{
 			Chance:       FormatPercent(p.P),
-			Stated:       FormatValue(p.X),
-			Fitted:       FormatValue(fitted),
+			Stated:       v.value(p.X),
+			Fitted:       v.value(fitted),
 			FittedChance: FormatPercent(chance),
 		})
 	}
 	for i, x := range v.Percentiles {
-		m.Pcts[i] = FormatValue(x)
+		m.Pcts[i] = v.value(x)
+	}
+	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your stated values", "you said", "fitted chance below yours"
+	if v.Whose != "" {
+		m.KeyStated, m.SaidHeader, m.ChanceHeader = v.Whose+"'s stated values", v.Whose+" said", "fitted chance below that"
 	}
 
 	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatValue(v.Dist.Alpha), FormatValue(v.Dist.Beta.Beta))
@@ -166,6 +201,9 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 		}
 		px := g.dens.px(x)
 		label := names[i] + " " + formatSig(x, 3)
+		if v.Percent {
+			label = names[i] + " " + formatSig(100*x, 3) + "%"
+		}
 		w := labelWidth(label)
 		anchor, left := "middle", px-w/2
 		switch {
@@ -199,8 +237,8 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 // screen readers.
 func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s fitted to your judgement of %s, between the bounds %s and %s. ",
-		m.Params, axisTitle(v.Quantity, v.Units), FormatValue(v.Lower), FormatValue(v.Upper))
+	fmt.Fprintf(&b, "%s fitted to %s judgement of %s, between the bounds %s and %s. ",
+		m.Params, v.whose(false), axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
 	fmt.Fprintf(&b, "Fitted percentiles: 5th %s, median %s, 95th %s. ",
 		m.Pcts[0], m.Pcts[1], m.Pcts[2])
 	if len(m.Rows) > 0 {
@@ -208,7 +246,7 @@ func fitDescription(v FitView, m fitModel, g twinGeom) string {
 		for i, r := range m.Rows {
 			parts[i] = fmt.Sprintf("%s chance below %s (fitted curve: %s)", r.Chance, r.Stated, r.FittedChance)
 		}
-		fmt.Fprintf(&b, "Your stated points, marked as circles on the lower curve: %s. ", strings.Join(parts, "; "))
+		fmt.Fprintf(&b, "%s stated points, marked as circles on the lower curve: %s. ", v.whose(true), strings.Join(parts, "; "))
 	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")
