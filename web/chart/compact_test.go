@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"context"
 	"regexp"
 	"strconv"
 	"strings"
@@ -134,5 +135,36 @@ func TestTruthLabelStaysInsideTheStrip(t *testing.T) {
 				t.Errorf("truth %v, %s: label %q from %.1f to %.1f in a strip %.0f wide", truth, lay, label.Text, left, left+width, w)
 			}
 		}
+	}
+}
+
+// The median strip's numbers are actual experts' medians (nearest rank).
+// With fewer than five experts it shows no quartile box or rows, which
+// would be the extremes or next to them; with an even count its middle is
+// named for what it is, the lower of the two middle ones.
+func TestMedianStripForASmallPanel(t *testing.T) {
+	render := func(ms ...float64) (string, medianStripModel) {
+		labels := make([]string, len(ms))
+		for i := range ms {
+			labels[i] = "Expert " + strconv.Itoa(i+1)
+		}
+		v := MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1, Labels: labels, Medians: ms}
+		var b strings.Builder
+		if err := MedianStrip(v).Render(context.Background(), &b); err != nil {
+			t.Fatal(err)
+		}
+		return b.String(), newMedianStrip(v)
+	}
+	html, m := render(0.045, 0.08)
+	if strings.Contains(html, "median-box") || len(m.Rows) != 3 || m.Rows[1].Name != "middle expert's median (the lower of the two middle ones)" || m.Rows[1].Value != "0.045" {
+		t.Errorf("two experts: box %v, rows %+v", strings.Contains(html, "median-box"), m.Rows)
+	}
+	html, m = render(0.03, 0.04, 0.05)
+	if strings.Contains(html, "median-box") || len(m.Rows) != 3 || m.Rows[1].Name != "median of the medians" || m.Rows[1].Value != "0.04" {
+		t.Errorf("three experts: box %v, rows %+v", strings.Contains(html, "median-box"), m.Rows)
+	}
+	html, m = render(0.01, 0.02, 0.03, 0.04, 0.05)
+	if !strings.Contains(html, "median-box") || len(m.Rows) != 5 || m.Rows[1].Name != "lower quartile" || m.Rows[1].Value != "0.02" {
+		t.Errorf("five experts: box %v, rows %+v", strings.Contains(html, "median-box"), m.Rows)
 	}
 }

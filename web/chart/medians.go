@@ -38,6 +38,7 @@ type medianDrawing struct {
 	MidX                   string
 	Dots                   []stripDot
 	Truth                  *stripDot
+	NoBox                  bool   // too few medians for quartiles (minBoxMedians)
 	TruthAnchor            string // the label's text-anchor: start, middle or end
 	TruthY1, TruthY2       string
 }
@@ -48,6 +49,12 @@ type medianStripModel struct {
 	Empty           bool
 	Rows            []spreadQuartile
 }
+
+// minBoxMedians is the fewest medians whose quartiles the strip shows
+// (the box and the quartile rows): with four or fewer, nearest-rank
+// quartiles are the lowest and highest medians or their neighbours, and
+// a box from them reads as a spread it is not.
+const minBoxMedians = 5
 
 // Layout of the median strip, in viewBox units; its width is the
 // layout's.
@@ -94,14 +101,32 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 	for i := range v.Medians {
 		parts[i] = v.Labels[i] + " " + FormatValue(v.Medians[i])
 	}
-	m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". Half of the medians lie between " +
-		FormatValue(sp.LowerQuartile) + " and " + FormatValue(sp.UpperQuartile) + " (the box), and their median is " + FormatValue(sp.Median) + "."
+	// Every number is an actual expert's median (nearest rank). Below
+	// minBoxMedians the quartiles are the extremes or next to them, so
+	// neither the box nor the quartile rows are shown; and with an even
+	// count the middle is said to be the lower of the two middle ones.
+	mid := "median of the medians"
+	if len(v.Medians)%2 == 0 {
+		mid = "middle expert's median (the lower of the two middle ones)"
+	}
+	if len(v.Medians) < minBoxMedians {
+		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". The " + mid + " is " + FormatValue(sp.Median) + "."
+		for i := range m.Drawings {
+			m.Drawings[i].NoBox = true
+		}
+	} else {
+		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". Half of the medians lie between " +
+			FormatValue(sp.LowerQuartile) + " and " + FormatValue(sp.UpperQuartile) + " (the box), and the " + mid + " is " + FormatValue(sp.Median) + "."
+	}
 	if v.Truth != nil {
 		m.Desc += " The true value, now revealed, is " + FormatValue(*v.Truth) + "."
 	}
 	m.Rows = []spreadQuartile{
-		{"lowest", FormatValue(sp.Lowest)}, {"lower quartile", FormatValue(sp.LowerQuartile)}, {"median of the medians", FormatValue(sp.Median)},
+		{"lowest", FormatValue(sp.Lowest)}, {"lower quartile", FormatValue(sp.LowerQuartile)}, {mid, FormatValue(sp.Median)},
 		{"upper quartile", FormatValue(sp.UpperQuartile)}, {"highest", FormatValue(sp.Highest)},
+	}
+	if len(v.Medians) < minBoxMedians {
+		m.Rows = []spreadQuartile{{"lowest", FormatValue(sp.Lowest)}, {mid, FormatValue(sp.Median)}, {"highest", FormatValue(sp.Highest)}}
 	}
 	return m
 }
