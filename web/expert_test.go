@@ -788,3 +788,22 @@ func TestExpertTypingPercentagesSeesThemInTheTable(t *testing.T) {
 		t.Error("the table writes the typed 3% as 0.03")
 	}
 }
+
+// An expert who never answered a calibration question reads, after its
+// reveal, that no answer can be added now, not that their (absent) answer
+// is final or an invitation to enter values.
+func TestRevealedQuestionWithoutAnAnswer(t *testing.T) {
+	g := newExpertRig(t)
+	if err := g.db.SetTrueValue(context.Background(), g.qcal.ID, hiddenTruth, true, "workshop over (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	_, page := g.get(g.qpath(0, g.qcal))
+	if !strings.Contains(page, "You gave no answer to this question before then, and answers to it can no longer be added.") {
+		t.Error("no sentence saying no answer can be added")
+	}
+	for _, wrong := range []string{"your answer below is final", "Enter your values and choose"} {
+		if strings.Contains(page, wrong) {
+			t.Errorf("the page says %q", wrong)
+		}
+	}
+}
