@@ -629,15 +629,27 @@ const representationGrid = 99
 // the criterion FitQuantiles applies to an expert's judgement (O'Hagan et
 // al. 2006, "Uncertain Judgements", §6.4), solved in log-parameter space
 // with gonum/optimize by the same local fits, though started and ranked
-// on subsets of the grid first (representationFit). For a pool of one
-// Beta it
-// recovers that Beta. Grid points whose pool quantile rounds to a bound
-// are left out of the fit but not out of the reported distance, which is
-// taken over the whole grid.
+// on subsets of the grid first (representationFit). A pool whose
+// components are all one Beta is that Beta, exactly, whatever its
+// weights: no fit is made (the grid cannot see a Beta whose quantiles
+// all round to a bound, such as Beta(1000, 1e-6), a point mass at 1 in
+// float64). Grid points whose pool quantile rounds to a bound are left
+// out of the fit but not out of the reported distance, which is taken
+// over the whole grid.
 func (p Pool) BestBeta() (Representation, error) {
 	probs := make([]float64, representationGrid)
 	for k := range probs {
 		probs[k] = float64(k+1) / (representationGrid + 1)
+	}
+	if err := p.Validate(); err == nil && len(p.Components) > 0 {
+		d, same := p.Components[0].Dist.Beta, true
+		for _, c := range p.Components[1:] {
+			same = same && c.Dist.Beta == d
+		}
+		if same {
+			return Representation{Dist: ScaledBeta{Beta: d, Lower: p.Lower, Upper: p.Upper}, Probs: probs,
+				SDRatio: 1, IntervalRatio: 1, Warnings: []string{}}, nil
+		}
 	}
 	qs, err := p.Quantiles(probs)
 	if err != nil {

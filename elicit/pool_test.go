@@ -648,3 +648,27 @@ func TestSDOnTheWidestBounds(t *testing.T) {
 		t.Errorf("single Beta's SD ratio %v", r.SDRatio)
 	}
 }
+
+// A pool whose components are all one Beta is represented by that Beta
+// exactly, even where the grid of its quantiles cannot see it: Beta(1000,
+// 1e-6) is a point mass at 1 in float64, and its best single Beta came
+// out as Beta(2e-5, 7e-6), 0.49 away (review of the input rules).
+func TestBestBetaOfOneBetaIsItself(t *testing.T) {
+	for _, c := range []struct {
+		d Beta
+		w []float64
+	}{{Beta{Alpha: 1000, Beta: 1e-6}, []float64{1}}, {Beta{Alpha: 3, Beta: 9}, []float64{1, 2, 5}}} {
+		ds := make([]ScaledBeta, len(c.w))
+		for i := range ds {
+			ds[i] = ScaledBeta{Beta: c.d, Lower: 0, Upper: 1}
+		}
+		p, err := LinearPool(ds, c.w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		r, err := p.BestBeta()
+		if err != nil || r.Dist.Beta != c.d || r.MaxCDFError != 0 || len(r.Warnings) != 0 || r.SDRatio != 1 {
+			t.Errorf("%v × %d: %+v, %v", c.d, len(c.w), r, err)
+		}
+	}
+}
