@@ -47,10 +47,15 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, f *Form) {
-	reason := f.Text("reopen_reason", input.MaxLongText, true)
-	if f.OK() {
-		f.Fail(ws.CheckReopen(), map[string]string{"action": "reopen_reason"})
+	// While a round is open (a stale tab) the page shows no reopening
+	// field: the refusal goes beside the round's action, which is shown,
+	// before any reason is asked for.
+	if err := ws.CheckReopen(); err != nil {
+		f.Fail(err, nil)
+		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RoundForm: f})
+		return
 	}
+	reason := f.Text("reopen_reason", input.MaxLongText, true)
 	if f.OK() {
 		if err := s.store.ReopenRound(r.Context(), ws.ID, reason); err != nil {
 			switch {
