@@ -345,11 +345,13 @@ func TestScriptingBinary(t *testing.T) {
 }
 
 func TestPoolWithoutSingleBeta(t *testing.T) {
-	// Beta(5, 0.001) (invented, extreme): its grid quantiles crowd within
-	// an ulp of 1 and no Beta inside the fitter's range represents it
-	// well, so the pool is printed with a warning, not an error: either
-	// "beta": null, or a Beta whose distance from the pool is flagged.
-	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
+	// Beta(5, 0.001) and Beta(8, 0.002) (invented, extreme): their grid
+	// quantiles crowd within an ulp of 1 and no Beta inside the fitter's
+	// range represents the pool well, so it is printed with a warning,
+	// not an error: either "beta": null, or a Beta whose distance from
+	// the pool is flagged. (A pool of Beta(5, 0.001) alone is that Beta,
+	// exactly: TestPoolOfOneBetaIsThatBeta.)
+	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001},{"alpha":8,"beta":0.002}]}`, "pool", "--format", "json")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
@@ -366,8 +368,26 @@ func TestPoolWithoutSingleBeta(t *testing.T) {
 		got.Beta != nil && !strings.Contains(got.Warnings[0], "far from the pool"):
 		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
 	}
-	if want := 5 / 5.001; math.Abs(got.Mean-want) > 1e-15 {
+	if want := (5/5.001 + 8/8.002) / 2; math.Abs(got.Mean-want) > 1e-15 {
 		t.Errorf("mean %v, want %v", got.Mean, want)
+	}
+}
+
+// A pool of one expert is that expert's Beta, exactly and without a
+// warning, even Beta(5, 0.001), whose grid quantiles crowd within an ulp
+// of 1.
+func TestPoolOfOneBetaIsThatBeta(t *testing.T) {
+	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Beta     *elicit.Beta
+		Warnings []string
+	}
+	decodeJSON(t, out, &got)
+	if got.Beta == nil || *got.Beta != (elicit.Beta{Alpha: 5, Beta: 0.001}) || len(got.Warnings) != 0 {
+		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
 	}
 }
 
