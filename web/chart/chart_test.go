@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -488,6 +489,13 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 	}
 	if strings.Contains(pct, "<td>0.06</td>") {
 		t.Error("percent: the table still says 0.06")
+	}
+	// The axis too: its ticks and the note under it.
+	if !strings.Contains(plain, "short of the upper bound 1.") || !strings.Contains(pct, "short of the upper bound 100%.") {
+		t.Error("the zoom note does not follow the expert's unit")
+	}
+	if !regexp.MustCompile(`class="tick-label"[^>]*>20%</text>`).MatchString(pct) || regexp.MustCompile(`class="tick-label"[^>]*>0\.2</text>`).MatchString(pct) {
+		t.Error("percent: the x axis's ticks are not percentages")
 	}
 	v.Whose = "Priya Raman"
 	named := render(v)

@@ -132,7 +132,7 @@ func newFitModel(v FitView) fitModel {
 	}
 	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist, Percentiles: &v.Percentiles}
 	for i, lay := range layouts {
-		d := fitDrawing{ID: m.ID, Twin: newTwin(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true)}
+		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}

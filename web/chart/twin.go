@@ -136,6 +136,7 @@ type frameKey struct {
 	lower, upper    float64
 	x0, x1, top     float64
 	clipped         string // the labels of curves cut at the top, joined by ", "
+	percent         bool   // the x axis's numbers as percentages
 }
 
 // axisTitle is "quantity (units)" or just the quantity.
@@ -158,6 +159,13 @@ type noteLine struct {
 // newTwin lays out curves over [lower, upper] in layout lay. Extra x
 // values (stated points) are kept inside the window.
 func newTwin(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
+	return newTwinIn(lay, quantity, units, lower, upper, curves, extra, area, false)
+}
+
+// newTwinIn is newTwin with the x axis's numbers (its ticks and the notes
+// under it) written as percentages when percent is set: for an expert
+// who typed their judgement of a proportion in percentages.
+func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area, percent bool) twinGeom {
 	sp := make([]curveSpan, len(curves))
 	valid := make([]bool, len(curves))
 	var tails [][2]float64
@@ -267,7 +275,7 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 	}
 
 	key := frameKey{layout: lay.Name, quantity: quantity, units: units, lower: lower, upper: upper,
-		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", ")}
+		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", "), percent: percent}
 	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
 	return g
 }
@@ -277,8 +285,16 @@ func newTwin(lay layout, quantity, units string, lower, upper float64, curves []
 func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	var g twinFrame
 	x0, x1, top, lower, upper := k.x0, k.x1, k.top, k.lower, k.upper
+	xv := FormatValue
+	if k.percent {
+		xv = FormatPercent
+	}
 	for _, t := range ticks(x0, x1, lay.XTicks) {
-		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: t.Label, Value: t.Label})
+		label := t.Label
+		if k.percent {
+			label = FormatPercent(t.Value)
+		}
+		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: label, Value: t.Label})
 	}
 	g.Density = yAxes(lay, dens, ticks(0, top, densityTicksN), "density", "chart-density")
 	var pt []tick
@@ -307,13 +323,13 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	switch {
 	case x0 > lower && x1 < upper:
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis runs from %s to %s, inside the bounds %s and %s.",
-			FormatValue(x0), FormatValue(x1), FormatValue(lower), FormatValue(upper)))
+			xv(x0), xv(x1), xv(lower), xv(upper)))
 	case x0 > lower:
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis starts at %s, not at the lower bound %s.",
-			FormatValue(x0), FormatValue(lower)))
+			xv(x0), xv(lower)))
 	case x1 < upper:
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis stops at %s, short of the upper bound %s.",
-			FormatValue(x1), FormatValue(upper)))
+			xv(x1), xv(upper)))
 	}
 	if k.clipped != "" {
 		g.Notes = append(g.Notes, fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.",
