@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"math"
+	"sort"
 	"strings"
 
 	"github.com/a-h/templ"
@@ -206,6 +207,7 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	// a bound is cut. A mixture's own window lies inside the picture's, so
 	// its top is read from its samples there.
 	top := 0.0
+	tops := make([]float64, len(curves))
 	for i, c := range curves {
 		if !valid[i] {
 			continue
@@ -214,8 +216,10 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 		if !sp[i].topKnown {
 			t = ownTop(c, lower, upper, xs, ys[i])
 		}
+		tops[i] = t
 		top = math.Max(top, t)
 	}
+	top = spikeCap(curves, valid, tops, top)
 	if !(top > 0) || !isFinite(top) {
 		top = 1
 	}
@@ -230,7 +234,10 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 		st := styleFor(c.Role, expertIndex(curves, i))
 		draw := func() paths {
 			var p paths
-			if smooth[i] {
+			// A smooth curve cut at the axis's top (spikeCap) is drawn
+			// as the clipped polyline below: cubic pieces would leave
+			// the plot.
+			if smooth[i] && !(tops[i] > top) {
 				b, _ := c.beta()
 				ks := remembered.knots.Get(gridKey{b, x0, x1}, func() []knot {
 					ks, _ := smoothKnots(b, x0, x1, sp[i])
@@ -247,6 +254,11 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 				}
 				// Too narrow for cubic pieces at the picture's scale:
 				// the polyline, clipped to the plot.
+				if xs == nil {
+					xs = dens.grid(gridPoints)
+				}
+				ys[i] = c.sample(xs, x0, x1)
+			} else if smooth[i] {
 				if xs == nil {
 					xs = dens.grid(gridPoints)
 				}
@@ -278,6 +290,46 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", "), percent: percent}
 	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
 	return g
+}
+
+// spikeRatio is how many times the experts' median density top the axis
+// may reach in a panel (spikeCap).
+const spikeRatio = 4
+
+// spikeCap is the density axis's top for curves whose own tops are tops
+// (the tallest is top). One very sure expert's spike, many times taller
+// than the others', would flatten every other curve into the baseline,
+// on the projector as on a phone. With at least two experts the axis
+// stops at spikeRatio times the experts' median top, but never below the
+// top of a curve that is not an expert's (a pool, as its own window
+// measures it, densityCap): taller curves are cut there, drawn as the
+// clipped polyline, and the note under the picture names them. A single
+// curve, or a panel without such a spike, keeps the tallest top.
+func spikeCap(curves []Curve, valid []bool, tops []float64, top float64) float64 {
+	var experts []float64
+	keep := 0.0
+	for i, c := range curves {
+		switch {
+		case !valid[i] || !isFinite(tops[i]):
+		case c.Role == RoleExpert:
+			experts = append(experts, tops[i])
+		default:
+			keep = math.Max(keep, tops[i])
+		}
+	}
+	if len(experts) < 2 {
+		return top
+	}
+	sort.Float64s(experts)
+	n := len(experts)
+	med := experts[n/2]
+	if n%2 == 0 {
+		med = (experts[n/2-1] + experts[n/2]) / 2
+	}
+	if c := math.Max(keep, spikeRatio*med); c > 0 && c < top {
+		return c
+	}
+	return top
 }
 
 // newTwinFrame lays out and renders the frame of a twin whose plots are
