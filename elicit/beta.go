@@ -223,6 +223,10 @@ const (
 	minBoundsWidth = 1e-12
 )
 
+// OnUnit reports whether the bounds are [0, 1]: the Beta is of a
+// proportion itself, where α + β reads as imagined binomial trials.
+func (d ScaledBeta) OnUnit() bool { return d.Lower == 0 && d.Upper == 1 }
+
 func (d ScaledBeta) width() float64           { return d.Upper - d.Lower }
 func (d ScaledBeta) toUnit(x float64) float64 { return (x - d.Lower) / d.width() }
 

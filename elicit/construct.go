@@ -148,7 +148,8 @@ func Construct(in ConstructionInput) (Construction, error) {
 	if err != nil {
 		return Construction{}, err
 	}
-	c := Construction{Input: in, Dist: ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}, Warnings: constructionWarnings(d, in.Lower == 0 && in.Upper == 1)}
+	dist := ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}
+	c := Construction{Input: in, Dist: dist, Warnings: constructionWarnings(d, dist.OnUnit())}
 	if in.Method.IsInterval() {
 		c.BelowLow = d.CDF(unit(in.Low))
 		c.AboveHigh = d.Survival(unit(in.High))

@@ -206,7 +206,7 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 			f.Percentiles[k] = d.quantileNear(p, f.Fitted[near])
 		}
 	}
-	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.Lower == 0 && d.Upper == 1)
+	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.OnUnit())
 	return f
 }
 

@@ -179,9 +179,12 @@ func TestTailWarningRule(t *testing.T) {
 		t.Error("a 30% point is reported as an outer point")
 	}
 	// Chips: the fit of a histogram carries no tail rule.
-	f, err := FitChips([]float64{0, 0.1, 0.2, 0.3, 0.5, 1}, []int{1, 0, 1, 0, 18})
+	f, err := FitChips([]float64{0, 0.1, 0.2, 0.3, 0.5, 1}, []int{1, 0, 0, 18, 1})
 	if err != nil {
 		t.Fatal(err)
+	}
+	if _, ok := tailWarning(f.Probs, f.Stated, f.ProbErrors); !ok {
+		t.Fatal("the test's chips do not miss a tail by the rule, so they test nothing")
 	}
 	for _, w := range f.Warnings {
 		if w.Code == WarnTailMisfit {

@@ -271,6 +271,16 @@ func (w PriorWorth) DataShare(n int) float64 {
 	return float64(n) / (float64(n) + w.Trials)
 }
 
+// WorthOf says in plain words what d weighs: as imagined trials for a
+// proportion on [0, 1] (PriorWorth.String), and as α + β itself on other
+// bounds, where trials mean nothing.
+func WorthOf(d ScaledBeta) string {
+	if d.OnUnit() {
+		return Worth(d.Beta).String()
+	}
+	return fmt.Sprintf("α + β = %.4g: how strongly the prior holds its shape (not a number of trials on these bounds)", d.Alpha+d.Beta.Beta)
+}
+
 // String says in plain words what the prior is worth.
 func (w PriorWorth) String() string {
 	return fmt.Sprintf("worth about %s imagined trials (%s successes and %s failures)",

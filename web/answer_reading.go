@@ -27,7 +27,14 @@ const (
 
 // isProportion reports whether q's values are proportions, which experts
 // may type as percentages.
-func isProportion(q workshop.Question) bool { return q.Lower == 0 && q.Upper == 1 }
+func isProportion(q workshop.Question) bool { return q.IsProportion() }
+
+// keptInPercent says an answer is kept as typed in percent: a proportion
+// whose every value (typed of count) carried a % sign or was read in the
+// percent unit. Chips are counts.
+func keptInPercent(q workshop.Question, typed, count int) bool {
+	return isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
+}
 
 // rulePercentHere refuses a % sign where the question's values are not
 // proportions.
@@ -127,7 +134,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 			a.Values[i] = value(fmt.Sprintf("values[%d]", i))
 		}
 	}
-	a.Percent = isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
+	a.Percent = keptInPercent(q, typed, count)
 	unread := len(f.Errors) > before
 	if ps := q.Problems(a); len(ps) > 0 {
 		// Beside the fields that could be read, every problem at once; a

@@ -259,7 +259,7 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 			}
 		}
 	}
-	a.Percent = isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
+	a.Percent = keptInPercent(q, typed, count)
 	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}

@@ -85,7 +85,7 @@ type quickResult struct {
 // proportion says the construction is on [0, 1], where α + β counts
 // imagined binomial trials; on other bounds no trials give it meaning.
 func (r quickResult) proportion() bool {
-	return r.Construction.Input.Lower == 0 && r.Construction.Input.Upper == 1
+	return r.Construction.Dist.OnUnit()
 }
 
 // weightWords says how much the prior weighs: in trials for a proportion,

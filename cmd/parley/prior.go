@@ -261,13 +261,8 @@ func writePriorText(w io.Writer, o priorOutput) error {
 		}
 		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%.6g, %.6g), which holds %.4g%% of its probability there\n", name, alt.Alpha, alt.Beta, 100*alt.CoverageAchieved)
 	}
-	if o.Lower == 0 && o.Upper == 1 {
-		fmt.Fprintf(&b, "%s\n", o.Worth)
-	} else {
-		// Imagined trials describe a proportion; on other bounds the
-		// weight is α + β itself (the JSON's worth keeps the numbers).
-		fmt.Fprintf(&b, "α + β = %.4g: how strongly the prior holds its shape (not a number of trials on these bounds)\n", o.Worth.Trials)
-	}
+	// The JSON's worth keeps the numbers; the words follow the bounds.
+	fmt.Fprintf(&b, "%s\n", elicit.WorthOf(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: o.Alpha, Beta: o.Beta}, Lower: o.Lower, Upper: o.Upper}))
 	for _, m := range o.Warnings {
 		fmt.Fprintf(&b, "warning: %s\n", m)
 	}

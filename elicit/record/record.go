@@ -328,7 +328,7 @@ func recordPool(p workshop.Panel) *Pool {
 // the unit-scale parameter, with the rescaling alongside.
 func PriorSnippets(d elicit.ScaledBeta) []Snippet {
 	a, b := num(d.Alpha), num(d.Beta.Beta)
-	unit := d.Lower == 0 && d.Upper == 1
+	unit := d.OnUnit()
 	name, scale := "p", ""
 	if !unit {
 		name = "p_unit"

@@ -80,7 +80,9 @@ func CheckDataTotal(recorded int, d StudyData) error {
 
 // IsProportion reports whether the question asks for a proportion on
 // [0, 1], the scale on which binomial data update a Beta prior.
-func (q Question) IsProportion() bool { return q.Lower == 0 && q.Upper == 1 }
+func (q Question) IsProportion() bool {
+	return elicit.ScaledBeta{Lower: q.Lower, Upper: q.Upper}.OnUnit()
+}
 
 // ComparedPriors are the priors a question's study is compared under
 // (elicit.Sensitivity): each pooled expert's own current fit, the pool
