@@ -149,7 +149,10 @@ func TestWhole(t *testing.T) {
 		{"1e3", 0, elicit.RuleInteger},
 		{"٣", 0, elicit.RuleInteger},
 		{"1001", 0, elicit.RuleCountRange},
-		{"1234567890123", 0, elicit.RuleInteger}, // 13 digits
+		{"1234567890123", 0, elicit.RuleCountRange},                  // 13 digits: a whole number, out of range
+		{"0000000000003", 3, ""},                                     // leading zeros, 13 characters
+		{strings.Repeat("9", 400), 0, elicit.RuleCountRange},         // far out of range, not converted
+		{strings.Repeat("0", 40) + "1001", 0, elicit.RuleCountRange}, // out of range behind its zeros
 	}
 	for _, tt := range tests {
 		got, err := Whole("chips", tt.raw, 0, 1000)

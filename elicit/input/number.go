@@ -49,16 +49,24 @@ func Number(field, raw string) (float64, error) {
 }
 
 // Whole parses raw as a whole number in [min, max]: digits only (no sign,
-// point or exponent), at most MaxWholeLen of them.
+// point or exponent). Leading zeros are allowed; a number with more than
+// MaxWholeLen digits after them is above every max Parley uses (max must
+// be below 10^MaxWholeLen) and is refused as out of range, the rule it
+// breaks, without being converted.
 func Whole(field, raw string, min, max int) (int, error) {
 	s := strings.TrimSpace(raw)
 	if s == "" {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
 	}
-	if len(s) > MaxWholeLen || strings.TrimLeft(s, "0123456789") != "" {
+	if strings.TrimLeft(s, "0123456789") != "" {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleInteger, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
 	}
-	n, err := strconv.Atoi(s)
+	n, err := 0, error(nil)
+	if len(strings.TrimLeft(s, "0")) > MaxWholeLen {
+		err = strconv.ErrRange
+	} else {
+		n, err = strconv.Atoi(s)
+	}
 	if err != nil || n < min || n > max {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, Clip(s, 24))}
 	}
