@@ -15,6 +15,7 @@ import (
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
@@ -292,6 +293,10 @@ func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
 		{"round out of range", `"round": 1,`, `"round": 101,`, "workshop.round"},
 		{"round that overflows", `"round": 1,`, `"round": 9223372036854775807,`, "workshop.round"},
 		{"id beyond 2^53 - 1", `"id": 1,`, `"id": 9007199254740993,`, "workshop.id"},
+		// 200 kB nested 100,000 deep inside a time: the scan wrote out
+		// the path of every level and took gigabytes, then crashed.
+		{"nested 100,000 deep", `"generated_at": "`, `"generated_at": ` + strings.Repeat("[", 100_000) +
+			strings.Repeat("]", 100_000) + `, "x": "`, "generated_at" + strings.Repeat("[0]", input.MaxJSONDepth-1)},
 	} {
 		t.Run(tt.name, func(t *testing.T) {
 			if !strings.Contains(good, tt.old) {

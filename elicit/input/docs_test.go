@@ -35,6 +35,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		{`and affiliation take up to ([\d,]+) characters`, input.MaxShortText},
 		{`every reason and rationale take up to ([\d,]+) characters`, input.MaxLongText},
 		{`A workshop runs up to ([\d,]+) Delphi rounds`, workshop.MaxRounds},
+		{`arrays and objects nested more than ([\d,]+) deep`, input.MaxJSONDepth},
 	} {
 		m := regexp.MustCompile(c.re).FindStringSubmatch(text)
 		if m == nil {
@@ -54,6 +55,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		"input.MaxShortText": input.MaxShortText, "input.MaxLongText": input.MaxLongText,
 		"input.MaxDetail": input.MaxDetail, "workshop.MaxRounds": workshop.MaxRounds,
 		"workshop.MaxChips": workshop.MaxChips, "input.MaxListItems": input.MaxListItems,
+		"input.MaxJSONDepth": input.MaxJSONDepth,
 	}
 	seen := map[string]bool{}
 	for _, m := range regexp.MustCompile("([\\d,]+)(?: \\w+)? \\(`((?:input|workshop)\\.Max\\w+)`").FindAllStringSubmatch(string(dev), -1) {

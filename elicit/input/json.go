@@ -43,6 +43,19 @@ type JSONLayout struct {
 	Syntax, Unknown, WrongType elicit.Rule
 }
 
+// MaxJSONDepth is how deeply ScanJSON lets arrays and objects nest. A
+// Parley record nests 8 deep; a hostile document nested far deeper would
+// otherwise cost stack and memory for every level (encoding/json's own
+// limit is 10,000).
+const MaxJSONDepth = 64
+
+// RuleJSONDepth is broken by arrays and objects nested more than
+// MaxJSONDepth deep.
+const RuleJSONDepth elicit.Rule = "must not nest arrays and objects more than 64 deep"
+
+// maxKeyShown is how many characters of a key a path or a message shows.
+const maxKeyShown = 80
+
 // ScanJSON reads doc, one JSON value, token by token against the layout
 // of l.Type and refuses what encoding/json would let through silently or
 // report without the value's place: a key that appears twice in an object
@@ -51,14 +64,16 @@ type JSONLayout struct {
 // layout does not have, a string that is not valid UTF-8 or escapes half
 // a surrogate pair and a control character other than newline, carriage
 // return and tab in any string or key (RuleTextValid), a value of the
-// wrong JSON type, and a number beyond float64 (elicit.RuleFinite). Each
-// error is an *elicit.InputError naming the path of the key or value, as
-// "experts[2].name".
+// wrong JSON type, a number beyond float64 (elicit.RuleFinite), and
+// arrays and objects nested more than MaxJSONDepth deep (RuleJSONDepth).
+// Each error is an *elicit.InputError naming the path of the key or
+// value, as "experts[2].name". Its cost grows with the document's length
+// only: the path is written out only for an error.
 func ScanJSON(doc []byte, l JSONLayout) error {
 	dec := json.NewDecoder(bytes.NewReader(doc))
 	dec.UseNumber()
 	s := &jsonScanner{dec: dec, doc: doc, l: l}
-	if err := s.value(l.Type, ""); err != nil {
+	if err := s.value(l.Type); err != nil {
 		return err
 	}
 	if _, err := dec.Token(); err != io.EOF {
@@ -68,24 +83,77 @@ func ScanJSON(doc []byte, l JSONLayout) error {
 }
 
 // jsonScanner reads a JSON document token by token, keeping each token's
-// raw bytes.
+// raw bytes and the path to the value being read.
 type jsonScanner struct {
-	dec *json.Decoder
-	doc []byte
-	end int64 // where the last token ended
-	l   JSONLayout
+	dec   *json.Decoder
+	doc   []byte
+	end   int64 // where the last token ended
+	l     JSONLayout
+	steps []pathStep // from the document down to the value being read
+	depth int        // arrays and objects open
 }
 
-func (s *jsonScanner) err(path string, rule elicit.Rule, format string, args ...any) error {
-	if path == "" {
-		path = s.l.Whole
+// pathStep is one step of a path: an array's item, an object's key or a
+// map's key.
+type pathStep struct {
+	key     string
+	index   int  // an array's item's
+	item    bool // an array's item, not a key
+	inMap   bool // a map's key, written [key]
+	pending bool // the object's next key is still to be read
+}
+
+// path writes out the path of the value being read, as
+// "experts[2].name" or "by_id[21]"; the document's Whole at the top.
+func (s *jsonScanner) path() string {
+	var b strings.Builder
+	for i, st := range s.steps {
+		switch {
+		case st.pending:
+		case st.item:
+			b.WriteString("[" + strconv.Itoa(st.index) + "]")
+		case st.inMap:
+			b.WriteString("[" + shownKey(st.key) + "]")
+		case i > 0:
+			b.WriteString("." + shownKey(st.key))
+		default:
+			b.WriteString(shownKey(st.key))
+		}
+		if st.pending {
+			break
+		}
 	}
-	return &elicit.InputError{Field: path, Rule: rule, Detail: fmt.Sprintf(format, args...)}
+	if b.Len() == 0 {
+		return s.l.Whole
+	}
+	return b.String()
+}
+
+// shownKey is key as a path shows it: quoted in ASCII when it holds what
+// a text may not, and clipped to maxKeyShown characters.
+func shownKey(key string) string {
+	if CheckChars("", key) != nil {
+		key = strconv.QuoteToASCII(key) // a path is printed: no raw control bytes
+	}
+	return Clip(key, maxKeyShown)
+}
+
+func (s *jsonScanner) err(rule elicit.Rule, format string, args ...any) error {
+	return &elicit.InputError{Field: s.path(), Rule: rule, Detail: fmt.Sprintf(format, args...)}
+}
+
+// here puts the path of the value being read on err, an *elicit.InputError
+// made without one.
+func (s *jsonScanner) here(err error) error {
+	if ie, ok := err.(*elicit.InputError); ok && ie.Field == "" {
+		ie.Field = s.path()
+	}
+	return err
 }
 
 // next returns the next token and its raw text (with any separator and
 // space before it).
-func (s *jsonScanner) next(path string) (json.Token, []byte, error) {
+func (s *jsonScanner) next() (json.Token, []byte, error) {
 	start := s.end
 	tok, err := s.dec.Token()
 	if err != nil {
@@ -95,8 +163,8 @@ func (s *jsonScanner) next(path string) (json.Token, []byte, error) {
 		if errors.Is(err, io.EOF) || errors.Is(err, io.ErrUnexpectedEOF) {
 			detail = "empty or cut short"
 		}
-		if path != "" {
-			detail += ", in " + path
+		if p := s.path(); p != s.l.Whole {
+			detail += ", in " + p
 		}
 		return nil, nil, &elicit.InputError{Field: s.l.Whole, Rule: s.l.Syntax, Detail: detail}
 	}
@@ -107,57 +175,57 @@ func (s *jsonScanner) next(path string) (json.Token, []byte, error) {
 // value reads one value whose Go type in the layout is t (nil when the
 // value has no place in the layout: it is still read, and its strings and
 // keys checked).
-func (s *jsonScanner) value(t reflect.Type, path string) error {
+func (s *jsonScanner) value(t reflect.Type) error {
 	for t != nil && t.Kind() == reflect.Pointer {
 		t = t.Elem()
 	}
 	if t != nil && (decodesItself(t) || t.Kind() == reflect.Interface) {
 		t = nil
 	}
-	tok, raw, err := s.next(path)
+	tok, raw, err := s.next()
 	if err != nil {
 		return err
 	}
-	if err := s.checkType(t, tok, path); err != nil {
+	if err := s.checkType(t, tok); err != nil {
 		return err
 	}
 	switch tok := tok.(type) {
 	case json.Delim:
+		if s.depth++; s.depth > MaxJSONDepth {
+			return s.err(RuleJSONDepth, "%d arrays and objects open here", s.depth)
+		}
+		defer func() { s.depth-- }()
 		switch tok {
 		case '{':
-			return s.object(t, path)
+			return s.object(t)
 		case '[':
 			var elem reflect.Type
 			if t != nil {
 				elem = t.Elem()
 			}
+			s.steps = append(s.steps, pathStep{item: true})
 			for i := 0; s.dec.More(); i++ {
-				if err := s.value(elem, fmt.Sprintf("%s[%d]", path, i)); err != nil {
+				s.steps[len(s.steps)-1].index = i
+				if err := s.value(elem); err != nil {
 					return err
 				}
 			}
-			_, _, err := s.next(path)
+			s.steps = s.steps[:len(s.steps)-1]
+			_, _, err := s.next()
 			return err
 		}
 	case string:
-		if err := checkLiteral(s.pathOr(path), raw); err != nil {
-			return err
+		if err := checkLiteral("", raw); err != nil {
+			return s.here(err)
 		}
-		return CheckChars(s.pathOr(path), tok)
+		return s.here(CheckChars("", tok))
 	}
 	return nil
 }
 
-func (s *jsonScanner) pathOr(path string) string {
-	if path == "" {
-		return s.l.Whole
-	}
-	return path
-}
-
 // checkType refuses a token that cannot decode into t, naming the JSON
 // types rather than Go's, and a number beyond float64 as not finite.
-func (s *jsonScanner) checkType(t reflect.Type, tok json.Token, path string) error {
+func (s *jsonScanner) checkType(t reflect.Type, tok json.Token) error {
 	if t == nil || tok == nil { // null decodes into anything
 		return nil
 	}
@@ -189,7 +257,7 @@ func (s *jsonScanner) checkType(t reflect.Type, tok json.Token, path string) err
 		switch t.Kind() {
 		case reflect.Float32, reflect.Float64:
 			if _, err := strconv.ParseFloat(string(tok), t.Bits()); err != nil {
-				return s.err(path, elicit.RuleFinite, "got %s", tok)
+				return s.err(elicit.RuleFinite, "got %s", Clip(string(tok), MaxNumberLen))
 			}
 			return nil
 		case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:
@@ -201,9 +269,9 @@ func (s *jsonScanner) checkType(t reflect.Type, tok json.Token, path string) err
 				return nil
 			}
 		}
-		got = "number " + string(tok)
+		got = "number " + Clip(string(tok), MaxNumberLen)
 	}
-	return s.err(path, s.l.WrongType, "got %s, want %s", got, want)
+	return s.err(s.l.WrongType, "got %s, want %s", got, want)
 }
 
 // jsonKind names the JSON type that decodes into t.
@@ -229,7 +297,7 @@ func jsonKind(t reflect.Type) string {
 // object reads the members of an object whose Go type is t: a struct,
 // whose keys must be its JSON names exactly, or a map, whose keys must
 // be plain.
-func (s *jsonScanner) object(t reflect.Type, path string) error {
+func (s *jsonScanner) object(t reflect.Type) error {
 	var fields map[string]reflect.Type
 	var elem reflect.Type
 	numberKeys := false
@@ -248,33 +316,26 @@ func (s *jsonScanner) object(t reflect.Type, path string) error {
 	}
 	seen := map[string]bool{}
 	folded := map[string]string{}
+	s.steps = append(s.steps, pathStep{inMap: t != nil && t.Kind() == reflect.Map})
 	for s.dec.More() {
-		tok, raw, err := s.next(path)
+		s.steps[len(s.steps)-1].pending = true
+		tok, raw, err := s.next()
 		if err != nil {
 			return err
 		}
 		key := tok.(string) // the decoder reads only strings as keys
-		kp := key
-		if CheckChars("", key) != nil {
-			kp = strconv.QuoteToASCII(key) // a path is printed: no raw control bytes
+		s.steps[len(s.steps)-1].key, s.steps[len(s.steps)-1].pending = key, false
+		if err := checkLiteral("", raw); err != nil {
+			return s.here(err)
 		}
-		switch {
-		case t != nil && t.Kind() == reflect.Map:
-			kp = path + "[" + kp + "]"
-		case path != "":
-			kp = path + "." + kp
-		}
-		if err := checkLiteral(kp, raw); err != nil {
-			return err
-		}
-		if err := CheckChars(kp, key); err != nil {
-			return err
+		if err := CheckChars("", key); err != nil {
+			return s.here(err)
 		}
 		if seen[key] {
-			return s.err(kp, RuleDuplicateKey, "%q", key)
+			return s.err(RuleDuplicateKey, "%q", Clip(key, maxKeyShown))
 		}
 		if other, ok := folded[foldKey(key)]; ok {
-			return s.err(kp, RuleKeySpelling, "%q and %q differ only in letter case", other, key)
+			return s.err(RuleKeySpelling, "%q and %q differ only in letter case", Clip(other, maxKeyShown), Clip(key, maxKeyShown))
 		}
 		seen[key], folded[foldKey(key)] = true, key
 		var vt reflect.Type
@@ -284,26 +345,27 @@ func (s *jsonScanner) object(t reflect.Type, path string) error {
 			if !ok {
 				for name := range fields {
 					if strings.EqualFold(name, key) {
-						return s.err(kp, RuleKeySpelling, "%q, not %q", name, key)
+						return s.err(RuleKeySpelling, "%q, not %q", name, Clip(key, maxKeyShown))
 					}
 				}
-				return s.err(kp, s.l.Unknown, "%q is not a key of this object", key)
+				return s.err(s.l.Unknown, "%q is not a key of this object", Clip(key, maxKeyShown))
 			}
 			vt = ft
 		case numberKeys:
 			n, err := strconv.ParseInt(key, 10, 64)
 			if err != nil || strconv.FormatInt(n, 10) != key {
-				return s.err(kp, RuleKeySpelling, "%q is not a plain whole number", key)
+				return s.err(RuleKeySpelling, "%q is not a plain whole number", Clip(key, maxKeyShown))
 			}
 			vt = elem
 		default:
 			vt = elem
 		}
-		if err := s.value(vt, kp); err != nil {
+		if err := s.value(vt); err != nil {
 			return err
 		}
 	}
-	_, _, err := s.next(path)
+	s.steps = s.steps[:len(s.steps)-1]
+	_, _, err := s.next()
 	return err
 }
 

@@ -3,6 +3,7 @@ package input
 import (
 	"errors"
 	"reflect"
+	"strings"
 	"testing"
 	"time"
 
@@ -85,6 +86,48 @@ func TestScanJSONRefuses(t *testing.T) {
 		var ie *elicit.InputError
 		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != c.rule {
 			t.Errorf("%q: %v, want field %q rule %q", c.doc, err, c.field, c.rule)
+		}
+	}
+}
+
+// Nesting is refused past MaxJSONDepth, inside values the layout does
+// not describe too (a type that reads its own JSON, an interface), and
+// reading a deep or wide document costs memory in proportion to its
+// length: the path was written out for every value, so a record of
+// 120 kB nested 60,000 deep took gigabytes and crashed `parley import`.
+func TestScanJSONNestingAndLongKeys(t *testing.T) {
+	nest := func(key string, n int) string {
+		return `{"` + key + `":` + strings.Repeat("[", n) + strings.Repeat("]", n) + `}`
+	}
+	for _, key := range []string{"anyway", "at"} {
+		if err := ScanJSON([]byte(nest(key, MaxJSONDepth-1)), scanLayout); err != nil && key == "anyway" {
+			t.Errorf("%s nested %d deep (with the document, %d): %v", key, MaxJSONDepth-1, MaxJSONDepth, err)
+		}
+		for _, n := range []int{MaxJSONDepth, 100_000} {
+			err := ScanJSON([]byte(nest(key, n)), scanLayout)
+			var ie *elicit.InputError
+			want := key + strings.Repeat("[0]", MaxJSONDepth-1)
+			if !errors.As(err, &ie) || ie.Rule != RuleJSONDepth || ie.Field != want {
+				t.Errorf("%s nested %d deep: %v, want field %s rule %q", key, n, err, want, RuleJSONDepth)
+			}
+		}
+	}
+
+	long := strings.Repeat("k", 1<<20)
+	for _, doc := range []string{
+		`{"parts":[{"` + long + `":1}]}`,                      // unknown key
+		`{"by_id":{"` + long + `":1}}`,                        // not a whole number
+		`{"anyway":{"` + long + `":1,"` + long + `":2}}`,      // twice
+		`{"anyway":{"` + long + `":{"x":"\u0007"}}}`,          // in the path of a refused value
+		`{"main":{"size":1` + strings.Repeat("0", 400) + `}}`, // beyond float64
+	} {
+		err := ScanJSON([]byte(doc), scanLayout)
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) {
+			t.Fatalf("%.40s…: %v, want an InputError", doc, err)
+		}
+		if len(ie.Error()) > 400 {
+			t.Errorf("%.40s…: the message is %d bytes long: %.200s…", doc, len(ie.Error()), ie.Error())
 		}
 	}
 }
