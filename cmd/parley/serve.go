@@ -28,7 +28,15 @@ type serveConfig struct {
 	addr, db, baseURL string
 	noDemo            bool
 	tlsCert, tlsKey   string
+	// grace is how long a shutdown waits for requests in flight
+	// (shutdownGrace when zero).
+	grace time.Duration
 }
+
+// shutdownGrace is how long a shutdown waits for requests in flight:
+// saves and pages finish in milliseconds, a body still arriving from a
+// slow phone in a few seconds.
+const shutdownGrace = 15 * time.Second
 
 func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("serve", stderr)
@@ -179,9 +187,21 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	case <-ctx.Done():
 	}
 	fmt.Fprintln(stdout, "parley: shutting down")
-	sctx, cancel := context.WithTimeout(context.Background(), 15*time.Second)
+	grace := c.grace
+	if grace <= 0 {
+		grace = shutdownGrace
+	}
+	sctx, cancel := context.WithTimeout(context.Background(), grace)
 	defer cancel()
 	err = hs.Shutdown(sctx)
+	if errors.Is(err, context.DeadlineExceeded) {
+		// A client that stopped sending mid-request (a phone that left
+		// the Wi-Fi) would hold the server open, and the stop would end
+		// in a bare "context deadline exceeded". Its connection is
+		// closed instead: a request whose body never came saved nothing.
+		fmt.Fprintf(stdout, "parley: closed the connections still open after %v (requests not finished by their clients)\n", grace)
+		err = hs.Close()
+	}
 	if e := <-errc; !errors.Is(e, http.ErrServerClosed) && err == nil {
 		err = e
 	}

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"fmt"
 	"io"
 	"net"
 	"net/http"
@@ -270,5 +271,44 @@ func TestFacilitatorReset(t *testing.T) {
 	}
 	if code := runFacilitatorReset([]string{"--db", filepath.Join(t.TempDir(), "missing.db")}, nil, &out, &errOut); code != exitBadInput {
 		t.Fatalf("missing database: exit %d", code)
+	}
+}
+
+// A client that stops sending in the middle of a request (a phone that
+// left the Wi-Fi mid-save) does not make the stop fail: after the grace
+// period its connection is closed and serve returns cleanly. It used to
+// return "context deadline exceeded", so `parley serve` exited 1.
+func TestServeStopsWithAStalledClient(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	base, out, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath, grace: 500 * time.Millisecond})
+	link := regexp.MustCompile(`/e/[A-Za-z0-9_-]{43}/`).FindString(out.String())
+	if link == "" {
+		t.Fatalf("no demo link printed:\n%s", out)
+	}
+	host := strings.TrimPrefix(base, "http://")
+	conn, err := net.DialTimeout("tcp", host, 5*time.Second)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer conn.Close()
+	// The head and 7 of the 100 bytes the body promises.
+	fmt.Fprintf(conn, "POST %sq/1/save HTTP/1.1\r\nHost: %s\r\nOrigin: %s\r\n"+
+		"Content-Type: application/x-www-form-urlencoded\r\nContent-Length: 100\r\n\r\nq05=0.1", link, host, base)
+	// The request is in the handler (reading its body) once a page
+	// requested after it has been answered on another connection.
+	if res, err := http.Get(base + "/signin"); err != nil {
+		t.Fatal(err)
+	} else {
+		res.Body.Close()
+	}
+	if err := stop(); err != nil {
+		t.Fatalf("stop with a stalled client: %v\n%s", err, out)
+	}
+	if !strings.Contains(out.String(), "closed the connections still open after 500ms") {
+		t.Errorf("the cut-off is not reported:\n%s", out)
+	}
+	_ = conn.SetReadDeadline(time.Now().Add(5 * time.Second))
+	if _, err := conn.Read(make([]byte, 1)); err == nil {
+		t.Error("the stalled client's connection is still open after the stop")
 	}
 }
