@@ -1,6 +1,7 @@
 package web
 
 import (
+	"bytes"
 	"context"
 	"encoding/csv"
 	"errors"
@@ -59,6 +60,9 @@ type sheetRow struct {
 	Fit      elicit.Fit
 }
 
+// shownCell is a cell as a message quotes it, clipped to 40 characters.
+func shownCell(s string) string { return strconv.Quote(input.Clip(s, 40)) }
+
 // sheetErr names a row and a column.
 func sheetErr(line int, column string, rule elicit.Rule, detail string, args ...any) error {
 	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: rule, Detail: fmt.Sprintf(detail, args...)}
@@ -107,7 +111,16 @@ func sheetColumns(q workshop.Question) []string {
 // column. Retired questions, calibration questions whose true value is
 // revealed, and revoked experts take no answers here either.
 func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []workshop.Expert) ([]sheetRow, error) {
-	cr := csv.NewReader(r)
+	// The upload's limit holds for a file given to parley import-answers
+	// too, which read any file whole.
+	b, err := io.ReadAll(io.LimitReader(r, maxSheetBytes+1))
+	if err != nil {
+		return nil, &elicit.InputError{Field: "sheet", Rule: ruleSheetHeader, Detail: err.Error()}
+	}
+	if len(b) > maxSheetBytes {
+		return nil, &elicit.InputError{Field: "sheet", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (1 MiB)", maxSheetBytes)}
+	}
+	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	header, err := cr.Read()
@@ -127,10 +140,10 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	for i, h := range header {
 		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
 		if !known[h] {
-			return nil, sheetErr(1, strconv.Quote(h), ruleSheetHeader, "no question of this workshop has a column %q", h)
+			return nil, sheetErr(1, shownCell(h), ruleSheetHeader, "no question of this workshop has a column %s", shownCell(h))
 		}
 		if _, dup := col[h]; dup {
-			return nil, sheetErr(1, strconv.Quote(h), ruleSheetHeader, "the column appears twice")
+			return nil, sheetErr(1, shownCell(h), ruleSheetHeader, "the column appears twice")
 		}
 		col[h] = i
 	}
@@ -186,10 +199,10 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 	row := sheetRow{Line: line}
 	var ok bool
 	if row.Expert, ok = findExpert(cell("expert"), experts); !ok {
-		return row, sheetErr(line, "expert", ruleSheetExpert, "%q", cell("expert"))
+		return row, sheetErr(line, "expert", ruleSheetExpert, "%s", shownCell(cell("expert")))
 	}
 	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
-		return row, sheetErr(line, "question", ruleSheetQuest, "%q", cell("question"))
+		return row, sheetErr(line, "question", ruleSheetQuest, "%s", shownCell(cell("question")))
 	}
 	q := row.Question
 	if q.Frozen() {

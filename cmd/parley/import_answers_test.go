@@ -84,12 +84,20 @@ func TestImportAnswersRefusals(t *testing.T) {
 		{"wrong column", []string{"--in", writeSheet(t, "expert,question,q05,q50,q95,lowest\nInes,Q2,0.1,0.3,0.6,0.2\n")}, `row 1, column "lowest"`},
 		{"no sheet", []string{}, "--in"},
 		{"bad channel", []string{"--in", writeSheet(t, good), "--channel", "carrier-pigeon"}, "--channel"},
+		// The command read any file whole (a 200 MB one took 1.9 GB and
+		// crashed), and quoted a bad column's whole name.
+		{"larger than the upload's limit", []string{"--in", writeSheet(t, good+strings.Repeat("Jomo,Q1,0.1,0.3,0.6\n", 60_000))},
+			"sheet: is too long (more than 1048576 bytes"},
+		{"a column name of 1 MB", []string{"--in", writeSheet(t, strings.Repeat("x", 1<<20-1)+"\n")}, `row 1, column "xxxxxxxx`},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			args := append([]string{"import-answers", "--db", path, "--workshop", w}, c.args...)
 			code, _, errOut := run(args...)
 			if code != 2 || !strings.Contains(errOut, c.want) || strings.Count(strings.TrimSpace(errOut), "\n") != 0 {
-				t.Fatalf("exit %d, stderr %q; want 2 naming %s", code, errOut, c.want)
+				t.Fatalf("exit %d, stderr %.300q; want 2 naming %s", code, errOut, c.want)
+			}
+			if len(errOut) > 300 {
+				t.Errorf("the message is %d bytes long: %.300q", len(errOut), errOut)
 			}
 		})
 	}
