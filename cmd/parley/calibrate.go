@@ -1,6 +1,7 @@
 package main
 
 import (
+	"bytes"
 	"encoding/csv"
 	"errors"
 	"fmt"
@@ -165,8 +166,21 @@ var requiredQuantiles = []string{"q05", "q50", "q95"}
 // must include q05, q50 and q95; then one row per expert and question.
 // Lines starting with # are comments. Errors name the row (the line in
 // the file), the column and the rule.
+// maxSeedInput bounds a calibration CSV: 200 experts answering 100
+// calibration questions take about 1.2 MB.
+const maxSeedInput = 4 << 20
+
 func readSeedCSV(r io.Reader) (*seedCSV, error) {
-	cr := csv.NewReader(r)
+	// A file is read whole only up to maxSeedInput: it read any file
+	// whole (a 200 MB line took gigabytes and crashed).
+	b, err := io.ReadAll(io.LimitReader(r, maxSeedInput+1))
+	if err != nil {
+		return nil, badInput("input", "%v", err)
+	}
+	if len(b) > maxSeedInput {
+		return nil, &elicit.InputError{Field: "input", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (4 MiB)", maxSeedInput)}
+	}
+	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
@@ -282,21 +296,21 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	for _, c := range cols[len(seedHeader):] {
 		m := quantileColumn.FindStringSubmatch(c)
 		if m == nil {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: ruleSeedHeader,
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: ruleSeedHeader,
 				Detail: "quantile columns are named qNN, e.g. q05, q50, q95"}
 		}
 		if len(m[1]) > 2 && strings.HasSuffix(m[1], "0") {
 			// q100 or q250 would read as 0.1 or 0.25: refuse the ambiguity.
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: ruleSeedHeader,
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: ruleSeedHeader,
 				Detail: "the digits after q are the probability's decimals; drop the trailing 0"}
 		}
 		p, _ := strconv.ParseFloat("0."+m[1], 64)
 		if len(probs) > 0 && !(p > probs[len(probs)-1]) {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: elicit.RuleProbIncreasing,
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: elicit.RuleProbIncreasing,
 				Detail: fmt.Sprintf("%v after %v", p, probs[len(probs)-1])}
 		}
 		if p == 0 {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(c), Rule: elicit.RuleProbOpen, Detail: "got 0"}
+			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: elicit.RuleProbOpen, Detail: "got 0"}
 		}
 		probs = append(probs, p)
 		have[c] = true

@@ -198,6 +198,10 @@ func TestCalibrateBadInput(t *testing.T) {
 		// exit 0 (text) and failed with exit 1 (JSON).
 		{"adjacent floats", head + adjacent, nil, []string{"row 2: q50: " + string(elicit.RuleQuantilesTooClose)}},
 		{"adjacent floats as JSON", head + adjacent, []string{"--format", "json"}, []string{"row 2: q50: " + string(elicit.RuleQuantilesTooClose)}},
+		// The file was read whole whatever its size (200 MB took
+		// gigabytes and crashed), and a header column quoted whole.
+		{"larger than 4 MiB", head + strings.Repeat("A,s1,1,0,1,2\n", 350_000), nil, []string{"input: " + string(input.RuleTooLong)}},
+		{"a header column of 1 MB", head[:len(head)-1] + "," + strings.Repeat("x", 1<<20) + "\n", nil, []string{`header column "xxxxxxxx`}},
 		{"overshoot too small to widen", head + "A,s1,1,0,1,2\n", []string{"--overshoot", "1e-300"}, []string{`questions["s1"]: ` + string(elicit.RuleRangeCollapsed)}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
@@ -207,8 +211,8 @@ func TestCalibrateBadInput(t *testing.T) {
 			t.Errorf("%s: exit %d, want 2; stderr %q", c.name, code, errOut)
 			continue
 		}
-		if out != "" || strings.Count(errOut, "\n") != 1 {
-			t.Errorf("%s: stdout %q, stderr %q", c.name, out, errOut)
+		if out != "" || strings.Count(errOut, "\n") != 1 || len(errOut) > 300 {
+			t.Errorf("%s: stdout %q, stderr %.300q (%d bytes)", c.name, out, errOut, len(errOut))
 		}
 		for _, w := range c.want {
 			if !strings.Contains(errOut, w) {
