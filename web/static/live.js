@@ -64,12 +64,62 @@
     }
   }
 
-  var stream = new EventSource(url);
-  stream.addEventListener("change", schedule);
-  stream.addEventListener("open", function () {
-    document.documentElement.setAttribute("data-live", "connected");
-  });
-  stream.addEventListener("error", function () {
-    document.documentElement.setAttribute("data-live", "reconnecting");
+  function state(s) {
+    document.documentElement.setAttribute("data-live", s);
+  }
+
+  // One stream per browser, not per tab: over plain HTTP a browser keeps
+  // at most six connections to a server, and every open stream holds
+  // one, so six live tabs (the overview, the projector's room view, a
+  // few panels) left the seventh page, and every form, waiting forever.
+  // A shared worker (live-worker.js) holds the workshop's one stream and
+  // passes its news to every tab; where there is none, the page holds
+  // its own stream.
+  function direct() {
+    var stream = new EventSource(url);
+    var dropped = false;
+    stream.addEventListener("change", schedule);
+    stream.addEventListener("open", function () {
+      state("connected");
+      if (dropped) {
+        dropped = false;
+        schedule(); // what changed while the stream was away
+      }
+    });
+    stream.addEventListener("error", function () {
+      dropped = true;
+      state("reconnecting");
+    });
+  }
+
+  if (!window.SharedWorker) {
+    direct();
+    return;
+  }
+  var worker;
+  try {
+    worker = new SharedWorker("/static/live-worker.js", { name: url });
+  } catch (e) {
+    direct();
+    return;
+  }
+  worker.port.onmessage = function (m) {
+    switch (m.data) {
+      case "change":
+        schedule();
+        break;
+      case "connected":
+      case "reconnecting":
+        state(m.data);
+        break;
+      case "unsupported":
+        worker.port.close();
+        direct();
+        break;
+    }
+  };
+  worker.port.start();
+  window.addEventListener("pagehide", function () {
+    worker.port.postMessage("bye");
   });
 })();

@@ -1,0 +1,74 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/web"
+)
+
+// liveTabs is more live pages than a browser keeps connections to one
+// server over plain HTTP (six).
+const liveTabs = 8
+
+// TestManyLiveTabsInOneBrowser: a facilitator with eight live pages open
+// in one browser (the overview, the projector's room view, panels) can
+// still open pages, and every one of them follows a save. Each page held
+// its own event stream, so with six open the seventh never loaded.
+func TestManyLiveTabsInOneBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	links, err := web.SeedDemo(ctx, site.DB)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	wsURL := site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/"
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	pages := []string{wsURL, wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10), wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10) + "/room"}
+	var tabs []*person
+	for i := 0; i < liveTabs; i++ {
+		tab := fac
+		if i > 0 {
+			tab = fac.tab(fmt.Sprintf("facilitator's tab %d", i+1))
+		}
+		if st := tab.open(pages[i%len(pages)]); st != http.StatusOK { // a tab that never loads fails the step's timeout
+			t.Fatalf("tab %d: status %d", i+1, st)
+		}
+		tab.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		tabs = append(tabs, tab)
+	}
+	before := make([]string, len(tabs))
+	for i, tab := range tabs {
+		before[i] = eval[string](tab, "last update", `String(document.documentElement.getAttribute("data-live-updated"))`)
+	}
+
+	// Priya saves her answer to question 1: every tab follows.
+	form := url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}, "reason": {"Line audits (invented)."}}
+	req, _ := http.NewRequest(http.MethodPost, site.URL+linkOf(t, links, "Priya Raman")+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save",
+		strings.NewReader(form.Encode()))
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", site.URL)
+	res, err := http.DefaultClient.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Body.Close()
+	if res.StatusCode >= 400 {
+		t.Fatalf("Priya's save: status %d", res.StatusCode)
+	}
+	for i, tab := range tabs {
+		expr := fmt.Sprintf(`String(document.documentElement.getAttribute("data-live-updated")) !== %q`, before[i])
+		if err := tab.poll(liveWithin, expr); err != nil {
+			t.Errorf("tab %d (%s) did not follow the save within %v: %v", i+1, pages[i%len(pages)], liveWithin, err)
+		}
+	}
+}
