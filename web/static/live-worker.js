@@ -37,9 +37,12 @@ self.onconnect = function (e) {
   var port = e.ports[0];
   ports.push(port);
   port.onmessage = function (m) {
-    if (m.data === "bye") {
-      var i = ports.indexOf(port);
-      if (i >= 0) { ports.splice(i, 1); }
+    var i = ports.indexOf(port);
+    if (m.data === "bye" && i >= 0) {
+      ports.splice(i, 1);
+    } else if (m.data === "hello" && i < 0) {
+      ports.push(port);
+      if (current) { port.postMessage(current); }
     }
   };
   port.start();

@@ -122,4 +122,10 @@
   window.addEventListener("pagehide", function () {
     worker.port.postMessage("bye");
   });
+  window.addEventListener("pageshow", function (e) {
+    if (e.persisted) { // back from the browser's page cache: listen again, and catch up
+      worker.port.postMessage("hello");
+      schedule();
+    }
+  });
 })();
