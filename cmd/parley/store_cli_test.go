@@ -293,6 +293,7 @@ func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
 		{"round out of range", `"round": 1,`, `"round": 101,`, "workshop.round"},
 		{"round that overflows", `"round": 1,`, `"round": 9223372036854775807,`, "workshop.round"},
 		{"id beyond 2^53 - 1", `"id": 1,`, `"id": 9007199254740993,`, "workshop.id"},
+		{"current prior not the history's last", `"rationale": "the pool`, `"rationale": "edited: the pool`, "questions[0].agreed_prior"},
 		// 200 kB nested 100,000 deep inside a time: the scan wrote out
 		// the path of every level and took gigabytes, then crashed.
 		{"nested 100,000 deep", `"generated_at": "`, `"generated_at": ` + strings.Repeat("[", 100_000) +

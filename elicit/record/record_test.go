@@ -317,6 +317,15 @@ func TestValidateRecord(t *testing.T) {
 		{"consensus", func(r *Record) { r.Questions[0].PriorHistory[1].Consensus.Values[0] = 0.5 }, "questions[0].prior_history[1].consensus.values[1]", elicit.RuleValueIncreasing},
 		{"event kind", func(r *Record) { r.Events[0].Kind = "coffee" }, "events[0].kind", elicit.RuleUnknown},
 		{"event question", func(r *Record) { r.Events[1].QuestionID = 99 }, "events[1].question_id", elicit.RuleUnknown},
+		// The current prior contradicting the history the import keeps:
+		// it was accepted, and the imported workshop showed another prior
+		// than the record's reader was given.
+		{"current prior not the last agreed", func(r *Record) { r.Questions[0].AgreedPrior.Dist.Alpha = 20 }, "questions[0].agreed_prior", RulePriorMismatch},
+		{"current prior an earlier one", func(r *Record) { r.Questions[0].AgreedPrior.AgreedPrior = r.Questions[0].PriorHistory[0] }, "questions[0].agreed_prior", RulePriorMismatch},
+		{"current prior's rationale", func(r *Record) { r.Questions[0].AgreedPrior.Rationale = "something else" }, "questions[0].agreed_prior", RulePriorMismatch},
+		{"current prior without a history", func(r *Record) { r.Questions[0].PriorHistory, r.StudyData = r.Questions[0].PriorHistory[:0], nil }, "questions[0].agreed_prior", RulePriorMismatch},
+		{"current prior's mean", func(r *Record) { r.Questions[0].AgreedPrior.Mean = 0.9 }, "questions[0].agreed_prior.mean", RulePriorMismatch},
+		{"current prior's median", func(r *Record) { r.Questions[0].AgreedPrior.Percentiles.P50 *= 1.001 }, "questions[0].agreed_prior.percentiles.p50", RulePriorMismatch},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {

@@ -3,7 +3,9 @@ package record
 import (
 	"fmt"
 	"math"
+	"reflect"
 	"sort"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -18,8 +20,11 @@ import (
 // id is from 1 to input.MaxID; the workshop's round is at most
 // workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
 // by fitting them, and a revision's fit must match the fresh one
-// (ValidateFits). The other derived numbers (pools, snippets) are not
-// trusted and not checked: an import drops them. The first broken rule is
+// (ValidateFits). A question's agreed_prior must be the last of its
+// prior_history, with its Beta's own mean, sd and percentiles
+// (RulePriorMismatch): it is the number the record's reader was given,
+// and an import keeps the history. The other derived numbers (pools,
+// snippets) are not trusted and not checked: an import drops them. The first broken rule is
 // returned as an *elicit.InputError whose Field is the path into the document,
 // e.g. "revisions[3].answer.values[1]".
 func (r Record) Validate() error {
@@ -170,6 +175,58 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 		if err := input.CheckText(p+".detail", e.Detail, input.MaxDetail, false); err != nil {
 			return err
+		}
+	}
+	for i, q := range r.Questions {
+		if err := checkCurrentPrior(fmt.Sprintf("questions[%d].agreed_prior", i), q); err != nil {
+			return err
+		}
+	}
+	return nil
+}
+
+// RulePriorMismatch is broken by a question's agreed_prior that is not
+// the last agreement of its prior_history, or whose summary is not its
+// Beta's.
+const RulePriorMismatch elicit.Rule = "must be the last agreement of prior_history, summarised by its own Beta"
+
+// summaryAgreement is the relative difference beyond which a current
+// prior's mean, sd or percentile is not its Beta's (with 1e-12 of the
+// question's span for a value near 0): far above the quantiles' accuracy
+// in any version of Parley, far below a printed digit.
+const summaryAgreement = 1e-6
+
+// checkCurrentPrior checks a question's agreed_prior against its history
+// and its own Beta. A record may leave it out; then the history's last is
+// the current prior, as the import keeps it.
+func checkCurrentPrior(p string, q Question) error {
+	cur := q.AgreedPrior
+	if cur == nil {
+		return nil
+	}
+	n := len(q.PriorHistory)
+	if n == 0 {
+		return inputErr(p, RulePriorMismatch, "prior_history is empty")
+	}
+	last := q.PriorHistory[n-1]
+	if !reflect.DeepEqual(cur.AgreedPrior, last) {
+		return inputErr(p, RulePriorMismatch, "it is not prior_history[%d] (%s, Beta(%g, %g) agreed at %s); it says %s, Beta(%g, %g) agreed at %s",
+			n-1, last.Source, last.Dist.Alpha, last.Dist.Beta.Beta, last.At.Format(time.RFC3339),
+			cur.Source, cur.Dist.Alpha, cur.Dist.Beta.Beta, cur.At.Format(time.RFC3339))
+	}
+	d := cur.Dist
+	span := d.Upper - d.Lower
+	for _, c := range []struct {
+		name      string
+		got, want float64
+	}{
+		{"mean", cur.Mean, d.Mean()}, {"sd", cur.SD, d.SD()},
+		{"percentiles.p05", cur.Percentiles.P05, d.Quantile(0.05)},
+		{"percentiles.p50", cur.Percentiles.P50, d.Quantile(0.5)},
+		{"percentiles.p95", cur.Percentiles.P95, d.Quantile(0.95)},
+	} {
+		if !(math.Abs(c.got-c.want) <= summaryAgreement*math.Abs(c.want)+1e-12*span) {
+			return inputErr(p+"."+c.name, RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", c.got, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, c.want)
 		}
 	}
 	return nil
