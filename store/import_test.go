@@ -48,8 +48,11 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	consensus := quantileAnswer(0.33)
 	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
 		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true}))
+	// A consensus prior is its judgement's fit, as the panel's form makes it.
+	agreed, err := p.qs[0].Fit(consensus)
+	must(t, err)
 	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromConsensus,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 7, Beta: 14}), Consensus: &consensus, Rationale: "agreed", RoundOpen: true}))
+		Dist: agreed.Dist, Consensus: &consensus, Rationale: "agreed", RoundOpen: true}))
 	// A prior from a quick construction on the second question, and data
 	// against both agreed priors.
 	built := elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.1, High: 0.5, Coverage: 0.9, Upper: 1}

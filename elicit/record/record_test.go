@@ -325,6 +325,12 @@ func TestValidateRecord(t *testing.T) {
 		{"current prior's rationale", func(r *Record) { r.Questions[0].AgreedPrior.Rationale = "something else" }, "questions[0].agreed_prior", RulePriorMismatch},
 		{"current prior without a history", func(r *Record) { r.Questions[0].PriorHistory, r.StudyData = r.Questions[0].PriorHistory[:0], nil }, "questions[0].agreed_prior", RulePriorMismatch},
 		{"current prior's mean", func(r *Record) { r.Questions[0].AgreedPrior.Mean = 0.9 }, "questions[0].agreed_prior.mean", RulePriorMismatch},
+		// A consensus prior that is not its judgement's fit: accepted, the
+		// imported prior said one thing and its consensus another.
+		{"consensus prior not its judgement's fit", func(r *Record) {
+			r.Questions[0].PriorHistory[1].Dist.Alpha = 20
+			r.Questions[0].AgreedPrior.AgreedPrior = r.Questions[0].PriorHistory[1]
+		}, "questions[0].prior_history[1].dist", RuleFitMismatch},
 		{"current prior's median", func(r *Record) { r.Questions[0].AgreedPrior.Percentiles.P50 *= 1.001 }, "questions[0].agreed_prior.percentiles.p50", RulePriorMismatch},
 	}
 	for _, tt := range tests {

@@ -19,8 +19,8 @@ import (
 // newline, carriage return and tab, the same limits in characters); every
 // id is from 1 to input.MaxID; the workshop's round is at most
 // workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
-// by fitting them, and a revision's fit must match the fresh one
-// (ValidateFits). A question's agreed_prior must be the last of its
+// by fitting them, and a revision's fit, like a consensus prior's Beta,
+// must match the fresh one (ValidateFits). A question's agreed_prior must be the last of its
 // prior_history, with its Beta's own mean, sd and percentiles
 // (RulePriorMismatch): it is the number the record's reader was given,
 // and an import keeps the history. The other derived numbers (pools,
@@ -178,9 +178,33 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 	}
 	for i, q := range r.Questions {
+		for j, ap := range q.PriorHistory {
+			if err := checkConsensusFit(fmt.Sprintf("questions[%d].prior_history[%d]", i, j), ap, q.Question); err != nil {
+				return err
+			}
+		}
 		if err := checkCurrentPrior(fmt.Sprintf("questions[%d].agreed_prior", i), q); err != nil {
 			return err
 		}
+	}
+	return nil
+}
+
+// checkConsensusFit checks that a prior agreed from a consensus judgement
+// is that judgement's fit, as the panel's form makes it (RuleFitMismatch,
+// with a revision's tolerance).
+func checkConsensusFit(p string, ap workshop.AgreedPrior, q workshop.Question) error {
+	if ap.Source != workshop.PriorFromConsensus || ap.Consensus == nil {
+		return nil
+	}
+	f, err := q.Fit(*ap.Consensus)
+	if err != nil {
+		return under(p+".consensus", err)
+	}
+	if k := ap.Dist; k.Lower != f.Dist.Lower || k.Upper != f.Dist.Upper ||
+		!(relDiff(k.Alpha, f.Dist.Alpha) <= fitAgreement) || !(relDiff(k.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement) {
+		return inputErr(p+".dist", RuleFitMismatch, "the record says Beta(%g, %g) on [%g, %g], a fresh fit of its consensus gives Beta(%g, %g) on [%g, %g]",
+			k.Alpha, k.Beta.Beta, k.Lower, k.Upper, f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper)
 	}
 	return nil
 }
