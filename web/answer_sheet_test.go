@@ -320,3 +320,35 @@ func TestAnswerSheetTakesPercentagesAsTheFormDoes(t *testing.T) {
 		t.Errorf("%% on a question off [0, 1]: %v", err)
 	}
 }
+
+// A sheet over 1 MiB is refused beside the file field when its form
+// arrives whole, and with the sheet's own limit when the body is larger
+// still. It answered a bare 413 saying "256 KiB", the limit of other
+// forms.
+func TestSheetUploadOverItsLimit(t *testing.T) {
+	g := newSheetRig(t)
+	upload := func(size int) (*http.Response, string) {
+		var buf bytes.Buffer
+		mw := multipart.NewWriter(&buf)
+		fw, _ := mw.CreateFormFile("file", "answers.csv")
+		fw.Write([]byte(goodSheet))
+		fw.Write([]byte(strings.Repeat("#", size-len(goodSheet)) + "\n"))
+		mw.WriteField("channel", "message")
+		mw.Close()
+		req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
+		req.Header.Set("Content-Type", mw.FormDataContentType())
+		req.Header.Set("Origin", g.h.ts.URL)
+		return g.h.do(req)
+	}
+	r, body := upload(maxSheetBytes + 1000)
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "at most 1 MiB") || !strings.Contains(body, `name="file"`) {
+		t.Errorf("a file of 1 MiB + 1000 bytes: %d, want 422 with the form and the limit beside the file:\n%.600s", r.StatusCode, body)
+	}
+	r, body = upload(2 << 20)
+	if r.StatusCode != http.StatusRequestEntityTooLarge || !strings.Contains(body, "at most 1 MiB") || strings.Contains(body, "256 KiB") {
+		t.Errorf("a file of 2 MiB: %d %q, want 413 naming the sheet's limit", r.StatusCode, body)
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("refused uploads saved %d revisions", n)
+	}
+}

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -62,7 +63,7 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 		if err := r.ParseMultipartForm(maxSheetBytes); err != nil {
 			var mbe *http.MaxBytesError
 			if errors.As(err, &mbe) {
-				tooLarge(w)
+				tooLarge(w, mbe.Limit)
 				return nil, "", false
 			}
 			http.Error(w, "The upload could not be read: "+err.Error(), http.StatusBadRequest)
@@ -81,10 +82,9 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 				fh.Close()
 				err = rerr
 				if len(b) > maxSheetBytes {
-					tooLarge(w)
-					return nil, "", false
-				}
-				if strings.TrimSpace(string(b)) != "" {
+					err = nil
+					f.set("file", string(input.RuleTooLong)+" (at most 1 MiB, 1,048,576 bytes); nothing was saved")
+				} else if strings.TrimSpace(string(b)) != "" {
 					text = string(b)
 				}
 			}

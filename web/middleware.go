@@ -51,10 +51,10 @@ func limitBody(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		limit := int64(MaxBodyBytes)
 		if sheetUpload.MatchString(r.URL.Path) {
-			limit = maxSheetBytes + 64<<10 // the sheet and its form's parts
+			limit = sheetBodyBytes
 		}
 		if r.ContentLength > limit {
-			tooLarge(w)
+			tooLarge(w, limit)
 			return
 		}
 		r.Body = http.MaxBytesReader(w, r.Body, limit)
@@ -62,15 +62,20 @@ func limitBody(next http.Handler) http.Handler {
 	})
 }
 
-// maxBodyText is MaxBodyBytes in words.
-var maxBodyText = strconv.Itoa(MaxBodyBytes>>10) + " KiB"
+// sheetBodyBytes is the body limit of an answer sheet's upload: the
+// sheet and its form's parts.
+const sheetBodyBytes = maxSheetBytes + 64<<10
 
 // sheetUpload is the one address that takes more than MaxBodyBytes: an
 // answer sheet's upload.
 var sheetUpload = regexp.MustCompile(`^/w/[0-9]+/answers/import$`)
 
-func tooLarge(w http.ResponseWriter) {
-	msg := "The request is larger than Parley accepts (" + maxBodyText + ").\n"
+// tooLarge answers a body over limit, naming the limit that applied.
+func tooLarge(w http.ResponseWriter, limit int64) {
+	msg := "The request is larger than Parley accepts (" + strconv.FormatInt(limit>>10, 10) + " KiB). Nothing was saved.\n"
+	if limit == sheetBodyBytes {
+		msg = "An answer sheet takes at most 1 MiB (1,048,576 bytes); this upload is larger. Nothing was saved.\n"
+	}
 	w.Header().Set("Content-Type", "text/plain; charset=utf-8")
 	w.Header().Set("Connection", "close")
 	w.WriteHeader(http.StatusRequestEntityTooLarge)
@@ -111,7 +116,7 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 	if err := r.ParseForm(); err != nil {
 		var mbe *http.MaxBytesError
 		if errors.As(err, &mbe) {
-			tooLarge(w)
+			tooLarge(w, mbe.Limit)
 			return false
 		}
 		http.Error(w, "The form could not be read: "+err.Error(), http.StatusBadRequest)
