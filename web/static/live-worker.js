@@ -50,7 +50,9 @@ self.onconnect = function (e) {
     port.postMessage("unsupported");
     return;
   }
-  if (!stream) {
+  if (!stream || stream.readyState === EventSource.CLOSED) {
+    // A stream refused for good (the facilitator signed out) is tried
+    // again for a page opened since.
     start();
   } else if (current) {
     port.postMessage(current);
