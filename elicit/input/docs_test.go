@@ -36,6 +36,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		{`every reason and rationale take up to ([\d,]+) characters`, input.MaxLongText},
 		{`A workshop runs up to ([\d,]+) Delphi rounds`, workshop.MaxRounds},
 		{`arrays and objects nested more than ([\d,]+) deep`, input.MaxJSONDepth},
+		{`with more than ([\d,]+) values`, input.MaxJSONValues},
 	} {
 		m := regexp.MustCompile(c.re).FindStringSubmatch(text)
 		if m == nil {
@@ -55,7 +56,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		"input.MaxShortText": input.MaxShortText, "input.MaxLongText": input.MaxLongText,
 		"input.MaxDetail": input.MaxDetail, "workshop.MaxRounds": workshop.MaxRounds,
 		"workshop.MaxChips": workshop.MaxChips, "input.MaxListItems": input.MaxListItems,
-		"input.MaxJSONDepth": input.MaxJSONDepth,
+		"input.MaxJSONDepth": input.MaxJSONDepth, "input.MaxJSONValues": input.MaxJSONValues,
 	}
 	seen := map[string]bool{}
 	for _, m := range regexp.MustCompile("([\\d,]+)(?: \\w+)? \\(`((?:input|workshop)\\.Max\\w+)`").FindAllStringSubmatch(string(dev), -1) {

@@ -41,6 +41,10 @@ type JSONLayout struct {
 	// Unknown of a key the layout does not have, WrongType of a value of
 	// the wrong JSON type.
 	Syntax, Unknown, WrongType elicit.Rule
+	// MaxValues is how many values (numbers, strings, true, false, null,
+	// arrays and objects, the document itself included) the document
+	// may hold; 0 means MaxJSONValues.
+	MaxValues int
 }
 
 // MaxJSONDepth is how deeply ScanJSON lets arrays and objects nest. A
@@ -52,6 +56,21 @@ const MaxJSONDepth = 64
 // RuleJSONDepth is broken by arrays and objects nested more than
 // MaxJSONDepth deep.
 const RuleJSONDepth elicit.Rule = "must not nest arrays and objects more than 64 deep"
+
+// MaxJSONValues is how many values a document ScanJSON reads may hold,
+// unless its layout says otherwise. Decoded, a value costs up to about
+// 800 bytes (an empty object in a record's revisions: 1,000,000 of them
+// took 810 MB), so a document of empty objects within a record's 64 MiB
+// would take about 26 GB and end in an out-of-memory crash; at this many
+// values it takes at most about 3.4 GB. A real record holds about one
+// value per 32 bytes (the 200-expert record of systemtest: 233,541
+// values in 7.5 MB), about 2.1 million at 64 MiB, so no record within
+// the byte limit is refused for its values unless it is twice as dense.
+const MaxJSONValues = 1 << 22
+
+// RuleJSONValues is broken by a document holding more values than its
+// layout's MaxValues.
+const RuleJSONValues elicit.Rule = "must not hold more values (numbers, texts, arrays, objects) than its limit"
 
 // maxKeyShown is how many characters of a key a path or a message shows.
 const maxKeyShown = 80
@@ -65,14 +84,18 @@ const maxKeyShown = 80
 // a surrogate pair and a control character other than newline, carriage
 // return and tab in any string or key (RuleTextValid), a value of the
 // wrong JSON type, a number beyond float64 (elicit.RuleFinite), and
-// arrays and objects nested more than MaxJSONDepth deep (RuleJSONDepth).
-// Each error is an *elicit.InputError naming the path of the key or
-// value, as "experts[2].name". Its cost grows with the document's length
+// arrays and objects nested more than MaxJSONDepth deep (RuleJSONDepth),
+// and more values than the layout's MaxValues (RuleJSONValues). Each
+// error is an *elicit.InputError naming the path of the key or value, as
+// "experts[2].name". Its cost grows with the document's length
 // only: the path is written out only for an error.
 func ScanJSON(doc []byte, l JSONLayout) error {
 	dec := json.NewDecoder(bytes.NewReader(doc))
 	dec.UseNumber()
-	s := &jsonScanner{dec: dec, doc: doc, l: l}
+	s := &jsonScanner{dec: dec, doc: doc, l: l, left: l.MaxValues}
+	if s.left <= 0 {
+		s.left = MaxJSONValues
+	}
 	if err := s.value(l.Type); err != nil {
 		return err
 	}
@@ -91,6 +114,7 @@ type jsonScanner struct {
 	l     JSONLayout
 	steps []pathStep // from the document down to the value being read
 	depth int        // arrays and objects open
+	left  int        // values still allowed
 }
 
 // pathStep is one step of a path: an array's item, an object's key or a
@@ -181,6 +205,13 @@ func (s *jsonScanner) value(t reflect.Type) error {
 	}
 	if t != nil && (decodesItself(t) || t.Kind() == reflect.Interface) {
 		t = nil
+	}
+	if s.left--; s.left < 0 {
+		max := s.l.MaxValues
+		if max <= 0 {
+			max = MaxJSONValues
+		}
+		return s.err(RuleJSONValues, "more than %d values", max)
 	}
 	tok, raw, err := s.next()
 	if err != nil {

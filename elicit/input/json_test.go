@@ -95,6 +95,36 @@ func TestScanJSONRefuses(t *testing.T) {
 // reading a deep or wide document costs memory in proportion to its
 // length: the path was written out for every value, so a record of
 // 120 kB nested 60,000 deep took gigabytes and crashed `parley import`.
+// A document of more values than its layout allows is refused at the
+// first value too many, with its path, before any of them is decoded; a
+// layout without a limit of its own has MaxJSONValues.
+func TestScanJSONValueLimit(t *testing.T) {
+	few := scanLayout
+	few.MaxValues = 10
+	// The document and the array under "anyway": 2 values, and 8 more are allowed.
+	doc := func(n int) string { return `{"anyway":[` + strings.TrimSuffix(strings.Repeat("{},", n), ",") + `]}` }
+	if err := ScanJSON([]byte(doc(8)), few); err != nil {
+		t.Errorf("10 values with a limit of 10: %v", err)
+	}
+	err := ScanJSON([]byte(doc(9)), few)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONValues || ie.Field != "anyway[8]" || !strings.Contains(ie.Detail, "more than 10 values") {
+		t.Errorf("11 values with a limit of 10: %v, want anyway[8] refused by %q", err, RuleJSONValues)
+	}
+	if testing.Short() {
+		return
+	}
+	// The default, on a document of MaxJSONValues values and one more.
+	err = ScanJSON([]byte(doc(MaxJSONValues-2)), scanLayout)
+	if err != nil {
+		t.Errorf("%d values: %v", MaxJSONValues, err)
+	}
+	err = ScanJSON([]byte(doc(MaxJSONValues-1)), scanLayout)
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONValues {
+		t.Errorf("%d values: %v, want %q", MaxJSONValues+1, err, RuleJSONValues)
+	}
+}
+
 func TestScanJSONNestingAndLongKeys(t *testing.T) {
 	nest := func(key string, n int) string {
 		return `{"` + key + `":` + strings.Repeat("[", n) + strings.Repeat("]", n) + `}`
