@@ -259,3 +259,76 @@ func mustEvents(t *testing.T, db *DB, ws int64) []workshop.Event {
 	}
 	return evs
 }
+
+// A question may be corrected in every part until its first answer is
+// saved, so a page can check an answer, and fit it, against the question
+// as it stood before a correction. The save checks the answer against the
+// question as it now stands, inside its transaction: an answer that
+// breaks the corrected question's rules, or whose kept fit was made on
+// the old bounds, probabilities or bins, is refused with
+// ErrQuestionChanged and nothing is saved; a fresh check and fit of the
+// same answer is then taken.
+func TestSaveChecksTheQuestionAsItNowStands(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	quantiles := workshop.Question{WorkshopID: p.w.ID, Wording: "What share fails? (invented)", Quantity: "share", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	chips := workshop.Question{WorkshopID: p.w.ID, Wording: "Place your chips (invented)", Quantity: "share", Lower: 0, Upper: 1,
+		Format: workshop.FormatChips, BinEdges: []float64{0, 0.25, 0.5, 0.75, 1}, Chips: 20}
+	for _, c := range []struct {
+		name   string
+		asked  workshop.Question // as the page showed it
+		now    func(q workshop.Question) workshop.Question
+		answer workshop.Answer
+	}{
+		{"bounds narrowed past the answer", quantiles, func(q workshop.Question) workshop.Question { q.Lower, q.Upper = 0.5, 100; return q },
+			quantileAnswer(0.3)},
+		{"bounds widened: the answer still lies inside, its fit does not", quantiles, func(q workshop.Question) workshop.Question { q.Upper = 2; return q },
+			quantileAnswer(0.3)},
+		{"probabilities changed", quantiles, func(q workshop.Question) workshop.Question { q.Probs = []float64{0.1, 0.5, 0.9}; return q },
+			quantileAnswer(0.3)},
+		{"bins moved", chips, func(q workshop.Question) workshop.Question { q.BinEdges = []float64{0, 0.2, 0.5, 0.8, 1}; return q },
+			workshop.Answer{Counts: []int{3, 8, 6, 3}}},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			asked := c.asked
+			if err := db.AddQuestion(ctx, &asked); err != nil {
+				t.Fatal(err)
+			}
+			fit, err := asked.Fit(c.answer)
+			if err != nil {
+				t.Fatal(err)
+			}
+			now := c.now(asked)
+			if err := db.EditQuestion(ctx, now, "invented: a typo in the question"); err != nil {
+				t.Fatal(err)
+			}
+			r := workshop.Revision{QuestionID: asked.ID, ExpertID: p.experts[0].ID, Answer: c.answer, Kept: &fit}
+			if err := db.SaveRevision(ctx, &r); !errors.Is(err, workshop.ErrQuestionChanged) {
+				t.Fatalf("a save checked against the question before its correction: %v, want ErrQuestionChanged", err)
+			}
+			sheet := []workshop.Revision{{QuestionID: asked.ID, ExpertID: p.experts[1].ID, Answer: c.answer, Kept: &fit}}
+			if err := db.SaveRevisions(ctx, sheet); !errors.Is(err, workshop.ErrQuestionChanged) {
+				t.Fatalf("a sheet's save checked against the question before its correction: %v, want ErrQuestionChanged", err)
+			}
+			rs, err := db.Revisions(ctx, p.w.ID)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, rv := range rs {
+				if rv.QuestionID == asked.ID {
+					t.Fatalf("a refused save was kept: %+v", rv)
+				}
+			}
+			// Checked and fitted afresh, the answer is taken where the
+			// corrected question allows it.
+			if fresh, err := now.Fit(c.answer); err == nil {
+				r.Kept = &fresh
+				if err := db.SaveRevision(ctx, &r); err != nil {
+					t.Fatalf("the same answer fitted to the corrected question: %v", err)
+				}
+			}
+		})
+	}
+}

@@ -85,6 +85,15 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 	if open == 0 {
 		return fmt.Errorf("store: workshop %d round %d: %w", workshopID, round, workshop.ErrRoundClosed)
 	}
+	// The answer was checked against the question as a page showed it;
+	// until its first answer a question may be corrected in every part.
+	q, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, r.QuestionID))
+	if err != nil {
+		return fmt.Errorf("store: save revision: %w", err)
+	}
+	if err := q.StillAnswers(r.Answer, r.Kept); err != nil {
+		return fmt.Errorf("store: question %d: %w", r.QuestionID, err)
+	}
 	id, err := insertRevision(ctx, tx, workshop.Revision{
 		QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
 		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel, Kept: r.Kept,

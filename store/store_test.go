@@ -420,9 +420,13 @@ func TestConcurrentSaves(t *testing.T) {
 		go func() {
 			defer wg.Done()
 			for i := range each {
+				a := quantileAnswer(0.3)
+				if g%2 == 1 { // the four-value question
+					a = workshop.Answer{Lowest: 0.1, Highest: 0.5, Best: 0.3, Confidence: 0.8}
+				}
 				r := workshop.Revision{
 					QuestionID: p.qs[g%2].ID, ExpertID: p.experts[g%3].ID,
-					Reason: fmt.Sprintf("g%d-%d", g, i), Answer: quantileAnswer(0.3),
+					Reason: fmt.Sprintf("g%d-%d", g, i), Answer: a,
 				}
 				if err := db.SaveRevision(ctx, &r); err != nil {
 					errs <- err

@@ -44,6 +44,7 @@ const (
 	ruleSheetExpert  elicit.Rule = "names no active expert on this workshop's panel"
 	ruleSheetQuest   elicit.Rule = "names no question of this workshop that takes answers"
 	ruleSheetEmpty   elicit.Rule = "the sheet has no rows"
+	ruleSheetChanged elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
 )
 
 // MaxSheetRows bounds a sheet: a panel of 200 experts answering 50
@@ -393,6 +394,8 @@ func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []sheet
 		return sheetErr(line, "question", ruleSheetQuest, "Q%d's true value has been revealed, so its answers are final", rows[i].Question.Position)
 	case errors.Is(err, workshop.ErrRetired):
 		return sheetErr(line, "question", ruleSheetQuest, "Q%d is retired", rows[i].Question.Position)
+	case errors.Is(err, workshop.ErrQuestionChanged):
+		return sheetErr(line, "question", ruleSheetChanged, "Q%d", rows[i].Question.Position)
 	case errors.Is(err, workshop.ErrRevoked), errors.Is(err, workshop.ErrNotFound):
 		return sheetErr(line, "expert", ruleSheetExpert, "%s", rows[i].Expert.Name)
 	}

@@ -598,6 +598,26 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			again(http.StatusConflict, frozenMessage, "", &fit)
 			return
 		}
+		if errors.Is(err, workshop.ErrQuestionChanged) {
+			// The facilitator corrected the question (before anyone had
+			// answered it) while the page was open: the values are
+			// checked, and fitted, afresh against the question as it
+			// now stands and shown with it, nothing saved.
+			q, qerr := s.store.Question(r.Context(), sc.question.ID)
+			if qerr != nil {
+				s.fail(w, r, qerr)
+				return
+			}
+			sc.question = q
+			f = newForm(r.PostForm)
+			_, nf, nok := readAnswer(sc.question, f)
+			var fresh *elicit.Fit
+			if nok {
+				fresh = &nf
+			}
+			again(http.StatusConflict, "", questionChangedForExpert, fresh)
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

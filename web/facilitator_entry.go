@@ -216,6 +216,23 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 			notice = "This question is retired, so it takes no answers; nothing was saved."
 		case errors.Is(err, workshop.ErrRevoked):
 			notice = sc.e.Name + "'s access is revoked, so nothing can be entered for them; nothing was saved."
+		case errors.Is(err, workshop.ErrQuestionChanged):
+			// Corrected (before its first answer) while the form was
+			// open: the values are checked afresh against the question
+			// as it now stands.
+			q, qerr := s.store.Question(r.Context(), sc.q.ID)
+			if qerr != nil {
+				s.fail(w, r, qerr)
+				return
+			}
+			sc.q = q
+			f = newForm(r.PostForm)
+			var p *previewView
+			if a, fit, _, ok := readEntry(sc.q, f); ok {
+				p = newPreviewPtr(sc.q, fit, a.Percent, sc.speaker())
+			}
+			s.entryAgain(w, r, sc, f, http.StatusConflict, questionChangedForFacilitator, p)
+			return
 		case s.notSaved(r, f, err):
 			s.entryAgain(w, r, sc, f, http.StatusServiceUnavailable, "", newPreviewPtr(sc.q, fit, a.Percent, sc.speaker()))
 			return

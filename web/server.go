@@ -193,6 +193,11 @@ const (
 		"Your values are kept below. Try Save again in a minute; if it still fails, tell the facilitator."
 	notSavedForFacilitator = "Nothing was saved: the database could not be written (the disk may be full or failing; " +
 		"the server log has the cause). What you entered is kept below: free some space or fix the disk, then send the form again."
+	// A question corrected (before its first answer) while the page was open.
+	questionChangedForExpert = "Your answer was not saved: the facilitator corrected this question while you were answering. " +
+		"Please read the question again. Your values are kept below; check them against it and save again."
+	questionChangedForFacilitator = "Nothing was saved: this question was corrected after the form was opened. " +
+		"The values are kept below, checked against the corrected question; check them and save again."
 )
 
 // serverFault reports whether err, from a save, is the server's own
@@ -205,7 +210,7 @@ func serverFault(r *http.Request, err error) bool {
 		return false
 	}
 	for _, refusal := range []error{workshop.ErrNotFound, workshop.ErrRoundClosed, workshop.ErrAnswersFrozen,
-		workshop.ErrRetired, workshop.ErrRevoked, workshop.ErrRoundStillOpen} {
+		workshop.ErrRetired, workshop.ErrRevoked, workshop.ErrRoundStillOpen, workshop.ErrQuestionChanged} {
 		if errors.Is(err, refusal) {
 			return false
 		}

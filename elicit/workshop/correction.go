@@ -1,6 +1,7 @@
 package workshop
 
 import (
+	"fmt"
 	"slices"
 	"strings"
 
@@ -98,6 +99,49 @@ func (w Workshop) CheckReopen() error {
 		return inputErr("action", RuleArchived, "bring the workshop back before reopening a round")
 	case w.Open:
 		return inputErr("action", RuleRoundSequence, "round %d is open, so there is no closed round to reopen", w.Round)
+	}
+	return nil
+}
+
+// StillAnswers checks, when an answer is saved, that a and its kept fit
+// (nil when none is kept) answer q as q now stands. A question may be
+// corrected in every part until its first answer is saved, so an answer
+// checked, and fitted, against the question as a page showed it may meet
+// a question corrected meanwhile. It is refused with ErrQuestionChanged
+// when it breaks one of q's rules (the error carries the first, as an
+// *elicit.InputError) or when its kept fit was not made on q's bounds,
+// probabilities or bins: the points and probabilities the fit used must
+// be those q and a state now, exactly, as Question.Fit makes them.
+func (q Question) StillAnswers(a Answer, kept *elicit.Fit) error {
+	if ps := q.Problems(a); len(ps) > 0 {
+		return fmt.Errorf("%w: %w", ErrQuestionChanged, ps[0])
+	}
+	if kept == nil {
+		return nil
+	}
+	var probs, points []float64
+	switch q.Format {
+	case FormatChips:
+		// As elicit.FitChips: the inner edges, at the share of chips below each.
+		points = q.BinEdges[1 : len(q.BinEdges)-1]
+		total, cum := 0, 0
+		for _, c := range a.Counts {
+			total += c
+		}
+		for i := range points {
+			cum += a.Counts[i]
+			probs = append(probs, float64(cum)/float64(total))
+		}
+	default:
+		j, err := q.Judgement(a)
+		if err != nil {
+			return fmt.Errorf("%w: %w", ErrQuestionChanged, err)
+		}
+		probs, points = j.Probs, j.Values
+	}
+	if kept.Dist.Lower != q.Lower || kept.Dist.Upper != q.Upper || !slices.Equal(kept.Probs, probs) || !slices.Equal(kept.Stated, points) {
+		return fmt.Errorf("%w: the kept fit is on [%v, %v] at other points or probabilities than the question's [%v, %v]",
+			ErrQuestionChanged, kept.Dist.Lower, kept.Dist.Upper, q.Lower, q.Upper)
 	}
 	return nil
 }

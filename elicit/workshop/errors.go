@@ -21,6 +21,10 @@ var (
 	ErrRevoked = errors.New("the expert's access has been revoked")
 	// ErrRetired is returned when an answer is saved to a retired question.
 	ErrRetired = errors.New("the question has been retired")
+	// ErrQuestionChanged is returned when an answer is saved that does
+	// not answer its question as the question now stands (Question.StillAnswers):
+	// the question was corrected after the answer was checked against it.
+	ErrQuestionChanged = errors.New("the question was corrected after the answer was checked against it")
 	// ErrNoAgreedPrior is returned when data are recorded for a question
 	// that has no agreed prior to update.
 	ErrNoAgreedPrior = errors.New("the question has no agreed prior yet")
