@@ -214,15 +214,15 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 	w := []Warning{}
 	a, b := d.Alpha, d.Beta
 	switch {
-	case a < 1 && b < 1:
+	case shapeBelowOne(a) && shapeBelowOne(b):
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"This prior is U-shaped (α = %.3g and β = %.3g are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", a, b)})
-	case a < 1:
+			"This prior is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", shapeText(a), shapeText(b))})
+	case shapeBelowOne(a):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (α = %.3g is below 1): its density rises without limit towards the lower bound.", a)})
-	case b < 1:
+			"This prior is J-shaped (α = %s is below 1): its density rises without limit towards the lower bound.", shapeText(a))})
+	case shapeBelowOne(b):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (β = %.3g is below 1): its density rises without limit towards the upper bound.", b)})
+			"This prior is J-shaped (β = %s is below 1): its density rises without limit towards the upper bound.", shapeText(b))})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
 		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})

@@ -250,15 +250,15 @@ func fitWarnings(d Beta, maxErr float64, proportion bool) []Warning {
 	w := []Warning{}
 	a, b := d.Alpha, d.Beta
 	switch {
-	case a < 1 && b < 1:
+	case shapeBelowOne(a) && shapeBelowOne(b):
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"The fitted density is U-shaped (α = %.3g and β = %.3g are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", a, b)})
-	case a < 1:
+			"The fitted density is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", shapeText(a), shapeText(b))})
+	case shapeBelowOne(a):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (α = %.3g is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", a)})
-	case b < 1:
+			"The fitted density is J-shaped (α = %s is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", shapeText(a))})
+	case shapeBelowOne(b):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (β = %.3g is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", b)})
+			"The fitted density is J-shaped (β = %s is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", shapeText(b))})
 	}
 	if maxErr > PoorFitThreshold {
 		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(

@@ -1,0 +1,64 @@
+package elicit
+
+import (
+	"math"
+	"regexp"
+	"strconv"
+	"testing"
+)
+
+// A shape warning never says "α = 1 … below 1". Worked by hand (method of
+// moments, α + β = m(1 − m)/v − 1): mean 0.5 with sd 0.2887 (the uniform's
+// 1/√12 = 0.288675…, rounded up) gives α = β = 0.5·(0.25/0.2887² − 1) =
+// 0.99977…, which %.3g writes as "1"; mean 0.5 with sd 1/√12 in float64
+// gives α = β = 1 − 4e-16, float noise around the uniform, not a U shape.
+func TestShapeWarningsReadBelowOne(t *testing.T) {
+	shown := regexp.MustCompile(`[αβ] = ([0-9.e+-]+)`)
+	cases := []struct {
+		in   ConstructionInput
+		want []WarningCode
+	}{
+		{ConstructionInput{Method: MethodMeanSD, Mean: 0.5, SD: 0.2887, Upper: 1}, []WarningCode{WarnUShaped}},
+		{ConstructionInput{Method: MethodMeanSD, Mean: 0.5, SD: 1 / math.Sqrt(12), Upper: 1}, nil},
+	}
+	for _, c := range cases {
+		got, err := Construct(c.in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(got.Warnings) != len(c.want) {
+			t.Errorf("sd %v, %v: warnings %+v, want %v", c.in.SD, got.Dist.Beta, got.Warnings, c.want)
+			continue
+		}
+		for _, w := range got.Warnings {
+			for _, m := range shown.FindAllStringSubmatch(w.Message, -1) {
+				if v, err := strconv.ParseFloat(m[1], 64); err != nil || v >= 1 {
+					t.Errorf("sd %v: %q writes a shape below 1 as %s", c.in.SD, w.Message, m[1])
+				}
+			}
+		}
+	}
+	// The fit's rules, directly: α = 0.9996 reads as below 1; 1 − 1e-12 is 1.
+	for _, c := range []struct {
+		a, b float64
+		want []WarningCode
+	}{
+		{0.9996, 3, []WarningCode{WarnJShaped}},
+		{3, 0.9996, []WarningCode{WarnJShaped}},
+		{1 - 1e-12, 1 - 1e-12, nil},
+		{1 - 1e-12, 3, nil},
+	} {
+		w := fitWarnings(Beta{c.a, c.b}, 0, true)
+		if len(w) != len(c.want) {
+			t.Errorf("Beta(%v, %v): %+v, want %v", c.a, c.b, w, c.want)
+			continue
+		}
+		for _, x := range w {
+			for _, m := range shown.FindAllStringSubmatch(x.Message, -1) {
+				if v, err := strconv.ParseFloat(m[1], 64); err != nil || v >= 1 {
+					t.Errorf("Beta(%v, %v): %q writes a shape below 1 as %s", c.a, c.b, x.Message, m[1])
+				}
+			}
+		}
+	}
+}
