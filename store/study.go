@@ -7,6 +7,7 @@ import (
 	"errors"
 	"fmt"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -15,7 +16,9 @@ import (
 // workshop.StudyData's rules, and the question's batches together at most
 // elicit.MaxUpdateTrials trials (workshop.CheckDataTotal); a question
 // without an agreed prior is refused with an error wrapping
-// workshop.ErrNoAgreedPrior. It sets d's ID and At.
+// workshop.ErrNoAgreedPrior, and so is a batch after which the current
+// agreed prior could not be updated (workshop.CheckDataUpdate). It sets
+// d's ID and At.
 func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 	if err := d.Validate(); err != nil {
 		return err
@@ -33,17 +36,25 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		if err != nil {
 			return fmt.Errorf("store: record data: %w", err)
 		}
-		var priors, recorded int
-		if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM agreed_priors WHERE question_id = ?`, d.QuestionID).Scan(&priors); err != nil {
-			return fmt.Errorf("store: record data: %w", err)
-		}
-		if priors == 0 {
+		// The current agreed prior is the question's latest (questionState.current).
+		var prior elicit.Beta
+		err = tx.QueryRowContext(ctx, `SELECT alpha, beta FROM agreed_priors WHERE question_id = ? ORDER BY id DESC LIMIT 1`, d.QuestionID).
+			Scan(&prior.Alpha, &prior.Beta)
+		if errors.Is(err, sql.ErrNoRows) {
 			return fmt.Errorf("store: record data for question %d: %w", d.QuestionID, workshop.ErrNoAgreedPrior)
 		}
-		if err := tx.QueryRowContext(ctx, `SELECT COALESCE(SUM(trials), 0) FROM study_data WHERE question_id = ?`, d.QuestionID).Scan(&recorded); err != nil {
+		if err != nil {
+			return fmt.Errorf("store: record data: %w", err)
+		}
+		var successes, recorded int
+		if err := tx.QueryRowContext(ctx, `SELECT COALESCE(SUM(successes), 0), COALESCE(SUM(trials), 0) FROM study_data WHERE question_id = ?`, d.QuestionID).
+			Scan(&successes, &recorded); err != nil {
 			return fmt.Errorf("store: record data: %w", err)
 		}
 		if err := workshop.CheckDataTotal(recorded, *d); err != nil {
+			return err
+		}
+		if err := workshop.CheckDataUpdate(prior, successes, recorded, *d); err != nil {
 			return err
 		}
 		stored := *d

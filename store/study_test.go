@@ -84,3 +84,42 @@ func TestAgreeConstructedPrior(t *testing.T) {
 		t.Fatalf("stored %+v", ps)
 	}
 }
+
+// A batch after which the agreed prior could not be updated is refused
+// and not saved: Beta(9.5e6, 9.5e6) with 600,000 successes in 600,000
+// trials would be Beta(1.01e7, 9.5e6), beyond elicit.MaxShape (1e7), and a
+// batch is never removed, so the study page could not show the update
+// again. The same batch with failures instead is kept only while β stays
+// within the limit too.
+func TestRecordDataKeepsTheUpdatePossible(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := p.qs[0].ID
+	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q, Source: workshop.PriorFromPool,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 9.5e6, Beta: 9.5e6}), Rationale: "near-certain (invented)", RoundOpen: true}))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: q, Successes: 400_000, Trials: 400_000, Source: "first (invented)", ObservedOn: "2026-05-31"}))
+	for _, c := range []struct {
+		d     workshop.StudyData
+		field string
+	}{
+		{workshop.StudyData{QuestionID: q, Successes: 200_000, Trials: 200_000, Source: "x", ObservedOn: "2026-05-31"}, "successes"},
+		{workshop.StudyData{QuestionID: q, Successes: 0, Trials: 500_001, Source: "x", ObservedOn: "2026-05-31"}, "trials"},
+	} {
+		var ie *elicit.InputError
+		if err := db.RecordData(ctx, &c.d); !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != elicit.RulePosteriorRange {
+			t.Errorf("%+v: %v, want field %s refused by %q", c.d, err, c.field, elicit.RulePosteriorRange)
+		}
+	}
+	got, err := db.StudyData(ctx, p.w.ID)
+	must(t, err)
+	if len(got) != 1 {
+		t.Fatalf("%d batches kept, want the first only", len(got))
+	}
+	var agreed []workshop.AgreedPrior
+	agreed, err = db.AgreedPriors(ctx, p.w.ID)
+	must(t, err)
+	if _, err := workshop.StudyUpdate(p.qs[0], agreed[len(agreed)-1], got); err != nil {
+		t.Errorf("the update of what was kept: %v", err)
+	}
+}

@@ -1,6 +1,7 @@
 package workshop
 
 import (
+	"errors"
 	"fmt"
 	"time"
 
@@ -239,4 +240,23 @@ func ConflictReading(c elicit.Conflict) string {
 		return fmt.Sprintf("No sign of conflict at the 5%% level: %d successes in %d trials is within what the prior allowed, though towards its %s end (two-sided tail probability %.2g).", c.Successes, c.Trials, end, c.TwoSided)
 	}
 	return fmt.Sprintf("No sign of conflict: %d successes in %d trials is well within what the prior expected (two-sided tail probability %.2g).", c.Successes, c.Trials, c.TwoSided)
+}
+
+// CheckDataUpdate refuses a batch d after which the agreed prior could no
+// longer be updated: the posterior of prior by the question's recorded
+// successes and trials together with d's must stay within elicit.MaxShape
+// (elicit.Posterior). A batch is never removed, so one that broke the
+// update would break it for good.
+func CheckDataUpdate(prior elicit.Beta, recordedSuccesses, recordedTrials int, d StudyData) error {
+	s, n := recordedSuccesses+d.Successes, recordedTrials+d.Trials
+	if _, err := elicit.Posterior(prior, s, n); err != nil {
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Rule != elicit.RulePosteriorRange {
+			return err
+		}
+		return inputErr(ie.Field, elicit.RulePosteriorRange,
+			"the agreed prior Beta(%.4g, %.4g) updated with %d successes in %d trials, this batch's included, would be Beta(%.4g, %.4g)",
+			prior.Alpha, prior.Beta, s, n, prior.Alpha+float64(s), prior.Beta+float64(n-s))
+	}
+	return nil
 }
