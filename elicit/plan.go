@@ -230,14 +230,24 @@ func PlanGrid(max, points int) []int {
 	return ns
 }
 
+// predictiveTieTol is the rounding PredictiveQuantile forgives: far
+// above the error of a small predictive's sums, far below any
+// probability a reader tells apart.
+const predictiveTieTol = 1e-12
+
 // PredictiveQuantile is the smallest outcome x with P(X ≤ x) ≥ p under
 // the distribution pmf of x = 0…len(pmf)−1 (such as PriorPredictive's),
-// for p in (0, 1]. Sums are compensated.
+// for p in (0, 1]. Sums are compensated, and a sum within
+// predictiveTieTol of p counts as reaching it: the probabilities come
+// from exp of sums of log-gamma terms and carry relative errors of order
+// 1e-15, so where P(X ≤ x) = p exactly (the uniform prior's predictive of
+// 3 trials at its median, 0.25 + 0.25) the computed sum may fall a few
+// ulps short and give x + 1 (SciPy's betabinom.ppf gives x).
 func PredictiveQuantile(pmf []float64, p float64) int {
 	var sum neumaierSum
 	for x, v := range pmf {
 		sum.add(v)
-		if sum.sum() >= p {
+		if sum.sum() >= p-predictiveTieTol {
 			return x
 		}
 	}
