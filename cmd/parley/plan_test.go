@@ -182,7 +182,7 @@ func TestPlanText(t *testing.T) {
 	for _, want := range []string{
 		"prior Beta(2, 38): mean 0.05",
 		"worth about 40 imagined trials (2 successes and 38 failures)",
-		"a study of 20 trials gets 33% of the weight in the posterior mean",
+		"a study of 20 trials gets 33.3% of the weight in the posterior mean",
 		"successes  probability",
 		"assurance that P(θ < 0.1 | data) ≥ 0.9 after 20 trials",
 		"the study succeeds if it sees at most",
@@ -270,5 +270,18 @@ func TestPlanBadInput(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// The data's share of the posterior mean is n/(α + β + n) (conjugate
+// update, worked by hand): 10/(461.8 + 14900 + 10) = 0.065%, which a
+// whole percent wrote as "0%", as if the study counted for nothing.
+func TestPlanTextSmallDataShare(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "461.8", "--beta", "14900", "--trials", "10")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if want := "a study of 10 trials gets 0.0651% of the weight in the posterior mean"; !strings.Contains(out, want) {
+		t.Errorf("text output lacks %q:\n%s", want, out)
 	}
 }
