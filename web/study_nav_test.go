@@ -41,3 +41,18 @@ func TestStudyPageLinksOnlyToItsSections(t *testing.T) {
 		}
 	}
 }
+
+// The comparison picture says which interval its lines are, as the table
+// beside it does: the posterior's 95% equal-tailed interval
+// (workshop.UpdateLevel, elicit.EqualTailed), not just "interval".
+func TestStudyComparisonNamesItsInterval(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=60")
+	if !strings.Contains(body, `id="compare-planned`) {
+		t.Fatal("no comparison picture for the planned study")
+	}
+	want := "Each line is the posterior's 95% equal-tailed interval under one prior"
+	if !strings.Contains(body, htmlEscape(want)) {
+		t.Errorf("the comparison picture does not say %q", want)
+	}
+}

@@ -288,7 +288,10 @@ type IntervalsView struct {
 	ID     string
 	Title  string
 	XTitle string
-	Rows   []IntervalRow
+	// Interval names the interval each line is, for the description,
+	// e.g. "95% equal-tailed interval"; "interval" when empty.
+	Interval string
+	Rows     []IntervalRow
 }
 
 // IntervalRow is one prior's posterior summary; Emphasis draws it
@@ -387,7 +390,11 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 	for _, r := range v.Rows {
 		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, FormatValue(r.Mean), FormatValue(r.Lo), FormatValue(r.Hi)))
 	}
-	m.Desc = "Each line is the posterior's interval under one prior, the dot its mean. " + strings.Join(words, "; ") + "."
+	interval := v.Interval
+	if interval == "" {
+		interval = "interval"
+	}
+	m.Desc = "Each line is the posterior's " + interval + " under one prior, the dot its mean. " + strings.Join(words, "; ") + "."
 	return m
 }
 
