@@ -56,14 +56,14 @@ func sizeGoalWords(g elicit.SampleSizeGoal) string {
 	kind := intervalName(g.Interval)
 	switch g.Criterion {
 	case elicit.CriterionACC:
-		return fmt.Sprintf("its %s intervals %s wide hold the true proportion with probability at least %s on average", kind, fv(g.Length), pct(g.Level))
+		return fmt.Sprintf("its %s intervals %s wide hold the true proportion with probability at least %s on average", kind, fv(g.Length), typedPct(g.Level))
 	case elicit.CriterionWOC:
 		if g.Trim > 0 {
-			return fmt.Sprintf("its %s %s intervals are at most %s wide whatever the outcome, leaving aside unlikely outcomes of total probability %s", kind, pct(g.Level), fv(g.Length), fv(g.Trim))
+			return fmt.Sprintf("its %s %s intervals are at most %s wide whatever the outcome, leaving aside unlikely outcomes of total probability %s", kind, typedPct(g.Level), fv(g.Length), fv(g.Trim))
 		}
-		return fmt.Sprintf("its %s %s intervals are at most %s wide whatever the outcome", kind, pct(g.Level), fv(g.Length))
+		return fmt.Sprintf("its %s %s intervals are at most %s wide whatever the outcome", kind, typedPct(g.Level), fv(g.Length))
 	}
-	return fmt.Sprintf("its %s %s intervals are on average at most %s wide", kind, pct(g.Level), fv(g.Length))
+	return fmt.Sprintf("its %s %s intervals are on average at most %s wide", kind, typedPct(g.Level), fv(g.Length))
 }
 
 func criterionValueWords(c elicit.Criterion) string {
@@ -81,7 +81,7 @@ func goalWords(g elicit.SuccessCriterion) string {
 	if g.Direction == elicit.DirectionAbove {
 		sign = "above"
 	}
-	return fmt.Sprintf("the posterior probability that the proportion is %s %s is at least %s", sign, fv(g.Threshold), pct(g.Confidence))
+	return fmt.Sprintf("the posterior probability that the proportion is %s %s is at least %s", sign, fv(g.Threshold), typedPct(g.Confidence))
 }
 
 func successWords(a elicit.AssuranceResult) string {

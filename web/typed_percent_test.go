@@ -1,0 +1,27 @@
+package web
+
+import (
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// A level, confidence or coverage the user typed is written back as typed:
+// 0.9999 is 99.99%, where three significant figures wrote "at least
+// 100%", a posterior probability no data reach, and "100% intervals".
+func TestTypedLevelsReadAsTyped(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?prior=0&trials=50&threshold=0.1&direction=below&confidence=0.9999&length=0.3&level=0.9999")
+	for _, want := range []string{"is below 0.1 is at least 99.99%", "equal-tailed 99.99% intervals"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("study page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "at least 100%") || strings.Contains(body, "100% intervals") {
+		t.Error("study page writes a typed 0.9999 as 100%")
+	}
+	_, body = h.get(quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(qs[0].ID, 10) + "&construction=interval&c_low=0.01&c_high=0.3&c_coverage=0.9999")
+	if !strings.Contains(body, `<th scope="row">Coverage asked</th><td class="num">99.99%</td>`) {
+		t.Error("quick priors page does not write the coverage asked, 0.9999, as 99.99%")
+	}
+}
