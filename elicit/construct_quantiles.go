@@ -135,7 +135,7 @@ func (m *quantileMatch) refusal(rule Rule, s float64) error {
 	if rule == RuleShapeTooSmall {
 		why = "the interval is too wide for its coverage"
 	}
-	return inputErr("interval", rule, "%s: [%v, %v] at %v%% coverage; the search reached Beta(%.3g, %.3g)", why, m.low, m.high, 100*m.coverage, a, b)
+	return inputErr("interval", rule, "%s: [%v, %v] at %s%% coverage; the search reached Beta(%.3g, %.3g)", why, m.low, m.high, percentOf(m.coverage), a, b)
 }
 
 // innerLambda returns the logit μ at which the Beta with α + β = e^s has

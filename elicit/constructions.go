@@ -127,7 +127,7 @@ func FromIntervalMoments(low, high, coverage float64) (Beta, error) {
 	var ie *InputError
 	if errors.As(err, &ie) {
 		return Beta{}, inputErr("interval", ie.Rule,
-			"the moment match of [%v, %v] at %v%% coverage, mean %v and sd %.6g: %s", low, high, 100*coverage, (low+high)/2, (high-low)/2/z, ie.Detail)
+			"the moment match of [%v, %v] at %s%% coverage, mean %v and sd %.6g: %s", low, high, percentOf(coverage), (low+high)/2, (high-low)/2/z, ie.Detail)
 	}
 	return d, err
 }

@@ -361,11 +361,11 @@ func writePlanText(w io.Writer, o planOutput) error {
 		var goal string
 		switch s.Criterion {
 		case string(elicit.CriterionALC):
-			goal = fmt.Sprintf("its %s %g%% intervals are on average at most %g wide", kind, 100*s.Level, s.Length)
+			goal = fmt.Sprintf("its %s %s%% intervals are on average at most %g wide", kind, input.Typed(s.Level, true), s.Length)
 		case string(elicit.CriterionACC):
-			goal = fmt.Sprintf("its %s intervals %g wide hold on average at least %g%%", kind, s.Length, 100*s.Level)
+			goal = fmt.Sprintf("its %s intervals %g wide hold on average at least %s%%", kind, s.Length, input.Typed(s.Level, true))
 		default:
-			goal = fmt.Sprintf("its %s %g%% intervals are at most %g wide whatever the outcome", kind, 100*s.Level, s.Length)
+			goal = fmt.Sprintf("its %s %s%% intervals are at most %g wide whatever the outcome", kind, input.Typed(s.Level, true), s.Length)
 			if s.Trim > 0 {
 				goal += fmt.Sprintf(", leaving aside unlikely outcomes of total probability %g", s.Trim)
 			}

@@ -8,6 +8,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 func init() {
@@ -251,8 +252,8 @@ func writePriorText(w io.Writer, o priorOutput) error {
 	fmt.Fprintf(&b, "made from: %s\n", o.Description)
 	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Q05, o.Q50, o.Q95)
 	if o.CoverageAchieved != nil {
-		fmt.Fprintf(&b, "the interval [%g, %g] holds %.4g%% of this prior (asked %g%%): %.4g%% below it, %.4g%% above it\n",
-			o.Input.Low, o.Input.High, 100**o.CoverageAchieved, 100*o.Input.Coverage, 100**o.BelowLow, 100**o.AboveHigh)
+		fmt.Fprintf(&b, "the interval [%g, %g] holds %.4g%% of this prior (asked %s%%): %.4g%% below it, %.4g%% above it\n",
+			o.Input.Low, o.Input.High, 100**o.CoverageAchieved, input.Typed(o.Input.Coverage, true), 100**o.BelowLow, 100**o.AboveHigh)
 	}
 	if alt := o.Alternative; alt != nil {
 		name := "exact quantile match"

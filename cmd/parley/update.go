@@ -4,10 +4,10 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"math"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 func init() {
@@ -128,11 +128,11 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 
 func writeUpdateText(w io.Writer, o updateOutput) error {
 	var b strings.Builder
-	pct := math.Round(o.Level*1e6) / 1e4
+	pct := input.Typed(o.Level, true)
 	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g), data %d successes in %d trials\n", o.Prior.Alpha, o.Prior.Beta, o.Successes, o.Trials)
 	fmt.Fprintf(&b, "posterior Beta(%.6g, %.6g): mean %.6g, sd %.6g\n", o.Alpha, o.Beta, o.Mean, o.SD)
-	fmt.Fprintf(&b, "%g%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
-	fmt.Fprintf(&b, "%g%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
+	fmt.Fprintf(&b, "%s%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
+	fmt.Fprintf(&b, "%s%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
 	if c := o.Conflict; c != nil {
 		fmt.Fprintf(&b, "prior predictive check: %s\n", c)
 	}
