@@ -293,8 +293,16 @@ func WorthOf(d ScaledBeta) string {
 
 // String says in plain words what the prior is worth.
 func (w PriorWorth) String() string {
-	return fmt.Sprintf("worth about %s imagined trials (%s successes and %s failures)",
-		roughly(w.Trials), roughly(w.Successes), roughly(w.Failures))
+	return fmt.Sprintf("worth about %s (%s and %s)",
+		counted(w.Trials, "imagined trial", "imagined trials"), counted(w.Successes, "success", "successes"), counted(w.Failures, "failure", "failures"))
+}
+
+// counted is roughly(v) with its noun, singular when it reads as 1.
+func counted(v float64, one, many string) string {
+	if s := roughly(v); s != "1" {
+		return s + " " + many
+	}
+	return "1 " + one
 }
 
 // roughly prints a count with three significant figures, without an

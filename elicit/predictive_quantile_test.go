@@ -53,3 +53,14 @@ func TestPredictiveQuantileAtTiesAgainstSciPy(t *testing.T) {
 		t.Fatalf("%d rows read", rows)
 	}
 }
+
+// The uniform prior, the commonest quick prior, is worth 2 imagined
+// trials: 1 success and 1 failure, in the singular.
+func TestWorthWordsSingular(t *testing.T) {
+	if got, want := Worth(Beta{1, 1}).String(), "worth about 2 imagined trials (1 success and 1 failure)"; got != want {
+		t.Errorf("%q, want %q", got, want)
+	}
+	if got, want := Worth(Beta{0.5, 0.5}).String(), "worth about 1 imagined trial (0.5 successes and 0.5 failures)"; got != want {
+		t.Errorf("%q, want %q", got, want)
+	}
+}
