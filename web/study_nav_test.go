@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -54,5 +55,41 @@ func TestStudyComparisonNamesItsInterval(t *testing.T) {
 	want := "Each line is the posterior's 95% equal-tailed interval under one prior"
 	if !strings.Contains(body, htmlEscape(want)) {
 		t.Errorf("the comparison picture does not say %q", want)
+	}
+}
+
+// A prior agreed after the data, so certain that prior and data together
+// pass the accuracy limit of a Beta (α or β above 1e7), leaves the update
+// uncomputed; the page says so in words for the project lead, naming the
+// prior, the data and the limit, not in the package's message
+// ("elicit: successes: … (posterior alpha 1.0399999999999998e+07)").
+func TestStudyUpdateBeyondTheLimitReads(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	agree := func(a, b float64) {
+		t.Helper()
+		if err := h.db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromPool,
+			Dist: elicit.Unit(elicit.Beta{Alpha: a, Beta: b}), Rationale: "near-certain (invented)", RoundOpen: true}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	agree(9e6, 9e6)
+	if err := h.db.RecordData(ctx, &workshop.StudyData{QuestionID: qs[0].ID, Successes: 400_000, Trials: 400_000,
+		Source: "site log (invented)", ObservedOn: "2026-05-31"}); err != nil {
+		t.Fatal(err)
+	}
+	agree(9.99e6, 9.99e6)
+	res, body := h.get(studyPath(ws.ID, qs[0].ID))
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("study page: %d", res.StatusCode)
+	}
+	for _, want := range []string{"The agreed prior Beta(9990000, 9990000) cannot be updated with the 400000 successes in 400000 trials recorded",
+		"the posterior would be Beta(1.039e7, 9990000)", "at most 1e7"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("study page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "elicit:") {
+		t.Error("study page shows the package's message")
 	}
 }
