@@ -175,7 +175,7 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	if v.Agreed != nil && len(v.Data) > 0 {
 		u, err := workshop.StudyUpdate(q, *v.Agreed, v.Data)
 		if err != nil {
-			v.UpdateErr = updateErrorWords(v.Agreed.Dist.Beta, v.Data, err)
+			v.UpdateErr = workshop.UpdateFailure(q, *v.Agreed, v.Data, err)
 		} else {
 			v.Update = &u
 			v.UpdatePic = updatePicture(q, u)
@@ -202,26 +202,6 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 		v.Observed = compare(priors, v.Update.Successes, v.Update.Trials, "observed")
 	}
 	return v
-}
-
-// updateErrorWords says why the agreed prior could not be updated with
-// the question's data, in words for the project lead. The one refusal a
-// valid record can reach is a posterior beyond elicit.MaxShape: a prior
-// agreed after the data so certain that the two together pass the limit
-// (store.RecordData refuses such data for the prior already agreed).
-func updateErrorWords(prior elicit.Beta, data []workshop.StudyData, err error) string {
-	var ie *elicit.InputError
-	if !errors.As(err, &ie) {
-		return "The update could not be computed: " + err.Error()
-	}
-	if ie.Rule == elicit.RulePosteriorRange && len(data) > 0 {
-		s, n, _ := workshop.DataTotals(data, data[0].QuestionID)
-		post := elicit.Beta{Alpha: prior.Alpha + float64(s), Beta: prior.Beta + float64(n-s)}
-		return fmt.Sprintf("The agreed prior %s cannot be updated with the %d successes in %d trials recorded: the posterior would be %s, "+
-			"and Parley computes a Beta accurately only while α and β are at most 1e7. The data are kept; a less certain agreed prior can be updated with them.",
-			betaText(prior), s, n, betaText(post))
-	}
-	return "The update could not be computed: " + ie.Field + ": " + string(ie.Rule) + detailSuffix(ie.Detail)
 }
 
 // performanceWeights are the performance weights to compare under: those

@@ -79,17 +79,19 @@ func TestStudyUpdateBeyondTheLimitReads(t *testing.T) {
 		t.Fatal(err)
 	}
 	agree(9.99e6, 9.99e6)
-	res, body := h.get(studyPath(ws.ID, qs[0].ID))
-	if res.StatusCode != http.StatusOK {
-		t.Fatalf("study page: %d", res.StatusCode)
-	}
-	for _, want := range []string{"The agreed prior Beta(9990000, 9990000) cannot be updated with the 400000 successes in 400000 trials recorded",
-		"the posterior would be Beta(1.039e7, 9990000)", "at most 1e7"} {
-		if !strings.Contains(body, want) {
-			t.Errorf("study page lacks %q", want)
+	for _, page := range []string{studyPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/report", workshopPath(ws.ID) + "/export.json"} {
+		res, body := h.get(page)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", page, res.StatusCode)
 		}
-	}
-	if strings.Contains(body, "elicit:") {
-		t.Error("study page shows the package's message")
+		for _, want := range []string{"The agreed prior Beta(9990000, 9990000) cannot be updated with the 400000 successes in 400000 trials recorded",
+			"the posterior would be Beta(10390000, 9990000)", "at most 1e7"} {
+			if !strings.Contains(body, want) {
+				t.Errorf("%s lacks %q", page, want)
+			}
+		}
+		if strings.Contains(body, "elicit:") {
+			t.Errorf("%s shows the package's message", page)
+		}
 	}
 }

@@ -263,7 +263,7 @@ func build(src workshop.Snapshot, now time.Time, panels bool) (Record, error) {
 			rq.AgreedPrior = newPrior(cur)
 			if _, _, batches := workshop.DataTotals(src.Data, q.ID); batches > 0 {
 				if u, err := workshop.StudyUpdate(q, cur, src.Data); err != nil {
-					rq.UpdateError = err.Error()
+					rq.UpdateError = workshop.UpdateFailure(q, cur, src.Data, err)
 				} else {
 					rq.Update = &u
 				}

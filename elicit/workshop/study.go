@@ -3,6 +3,8 @@ package workshop
 import (
 	"errors"
 	"fmt"
+	"math"
+	"strconv"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -259,4 +261,38 @@ func CheckDataUpdate(prior elicit.Beta, recordedSuccesses, recordedTrials int, d
 			prior.Alpha, prior.Beta, s, n, prior.Alpha+float64(s), prior.Beta+float64(n-s))
 	}
 	return nil
+}
+
+// UpdateFailure says why StudyUpdate(q, p, data) failed with err, in words
+// for the project lead (the study page, the report, the record). The one
+// refusal a valid record can reach is a posterior beyond elicit.MaxShape:
+// a prior agreed after the data so certain that the two together pass the
+// limit (CheckDataUpdate refuses such data for the prior already agreed).
+func UpdateFailure(q Question, p AgreedPrior, data []StudyData, err error) string {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return "The update could not be computed: " + err.Error()
+	}
+	if ie.Rule == elicit.RulePosteriorRange {
+		s, n, _ := DataTotals(data, q.ID)
+		prior := p.Dist.Beta
+		post := elicit.Beta{Alpha: prior.Alpha + float64(s), Beta: prior.Beta + float64(n-s)}
+		return fmt.Sprintf("The agreed prior Beta(%s, %s) cannot be updated with the %d successes in %d trials recorded: the posterior would be Beta(%s, %s), "+
+			"and Parley computes a Beta accurately only while α and β are at most 1e7. The data are kept; a less certain agreed prior can be updated with them.",
+			shortNumber(prior.Alpha), shortNumber(prior.Beta), s, n, shortNumber(post.Alpha), shortNumber(post.Beta))
+	}
+	msg := "The update could not be computed: " + ie.Field + ": " + string(ie.Rule)
+	if ie.Detail != "" {
+		msg += " (" + ie.Detail + ")"
+	}
+	return msg
+}
+
+// shortNumber writes v to four significant figures, without an exponent
+// below a billion.
+func shortNumber(v float64) string {
+	if math.Abs(v) >= 1000 && math.Abs(v) < 1e9 {
+		return strconv.FormatFloat(math.Round(v), 'f', -1, 64)
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
 }
