@@ -1,6 +1,7 @@
 package elicit
 
 import (
+	"errors"
 	"fmt"
 	"math"
 	"strconv"
@@ -142,6 +143,7 @@ func Construct(in ConstructionInput) (Construction, error) {
 		} else {
 			d, err = FromIntervalQuantiles(unit(in.Low), unit(in.High), in.Coverage)
 		}
+		err = onTypedScale(err, in)
 	default:
 		return Construction{}, inputErr("method", RuleUnknown, "%q", in.Method)
 	}
@@ -156,6 +158,18 @@ func Construct(in ConstructionInput) (Construction, error) {
 		c.CoverageAchieved = 1 - c.BelowLow - c.AboveHigh
 	}
 	return c, nil
+}
+
+// onTypedScale puts the person's own interval and bounds first in an
+// interval's refusal, which FromInterval* word on [0, 1]; on [0, 1] the
+// two are the same and err is returned as it is.
+func onTypedScale(err error, in ConstructionInput) error {
+	var ie *InputError
+	if in.Lower == 0 && in.Upper == 1 || !errors.As(err, &ie) {
+		return err
+	}
+	return &InputError{Field: ie.Field, Rule: ie.Rule, Detail: fmt.Sprintf("[%v, %v] on [%v, %v] at %s%% coverage; on the 0-to-1 scale, %s",
+		in.Low, in.High, in.Lower, in.Upper, percentOf(in.Coverage), ie.Detail)}
 }
 
 // checkInBounds checks that v is finite and strictly inside (lower, upper).

@@ -131,7 +131,7 @@ func (m *quantileMatch) solve(s0 float64) (Beta, error) {
 // the shapes where the search stopped.
 func (m *quantileMatch) refusal(rule Rule, s float64) error {
 	a, b := shapes(s, m.innerLambda(s))
-	why := "the interval is too narrow, or too close to 0 or 1"
+	why := "the interval is too narrow, or too close to a bound"
 	if rule == RuleShapeTooSmall {
 		why = "the interval is too wide for its coverage"
 	}

@@ -1,9 +1,11 @@
 package elicit
 
 import (
+	"errors"
 	"math"
 	"regexp"
 	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -59,6 +61,24 @@ func TestShapeWarningsReadBelowOne(t *testing.T) {
 					t.Errorf("Beta(%v, %v): %q writes a shape below 1 as %s", c.a, c.b, x.Message, m[1])
 				}
 			}
+		}
+	}
+}
+
+// A refused interval on bounds other than [0, 1] is named in the person's
+// own numbers: [10, 10.0001] hours on [2, 50] at 90% is far too narrow for
+// any Beta within the limits (its width is 2e-6 of the range), and the
+// message said "[0.16666666666666666, 0.16666875]" and "too close to 0
+// or 1", numbers the person never typed.
+func TestIntervalRefusalNamesTheTypedInterval(t *testing.T) {
+	for _, m := range []ConstructionMethod{MethodIntervalQuantiles, MethodIntervalMoments} {
+		_, err := Construct(ConstructionInput{Method: m, Low: 10, High: 10.0001, Coverage: 0.9, Lower: 2, Upper: 50})
+		var ie *InputError
+		if !errors.As(err, &ie) {
+			t.Fatalf("%s: %v, want an input error", m, err)
+		}
+		if !strings.Contains(ie.Detail, "[10, 10.0001] on [2, 50]") || strings.Contains(ie.Detail, "0 or 1") {
+			t.Errorf("%s: %q does not name the typed interval and its bounds", m, ie.Detail)
 		}
 	}
 }
