@@ -1465,7 +1465,7 @@ func planForm(v studyView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = formError(v.Plan.Form).Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = formErrorSaying(v.Plan.Form, "Nothing was planned. Correct the marked fields and try again.").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

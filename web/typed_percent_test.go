@@ -25,3 +25,16 @@ func TestTypedLevelsReadAsTyped(t *testing.T) {
 		t.Error("quick priors page does not write the coverage asked, 0.9999, as 99.99%")
 	}
 }
+
+// The planning form is a question, not a record: a refused plan says
+// nothing was planned, not "Nothing was saved" (nothing ever is).
+func TestRefusedPlanSaysNothingWasPlanned(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	res, body := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=50&threshold=1&confidence=0.9")
+	if res.StatusCode != 422 {
+		t.Fatalf("refused plan: %d", res.StatusCode)
+	}
+	if !strings.Contains(body, "Nothing was planned. Correct the marked fields and try again.") || strings.Contains(body, "Nothing was saved") {
+		t.Error("a refused plan does not say that nothing was planned")
+	}
+}
