@@ -265,7 +265,7 @@ func (s *Server) agreeQuickPrior(w http.ResponseWriter, r *http.Request) {
 		}
 	}
 	if f.OK() && len(results) != 1 {
-		f.set(fieldConstruction, string(ruleChoice))
+		f.set(fieldConstruction, "record one method: the moment match or the exact quantile match, by its own button")
 	}
 	// The construction is read again for the page, apart from the
 	// recording's own errors (a missing rationale must not hide it).

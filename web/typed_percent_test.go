@@ -1,6 +1,8 @@
 package web
 
 import (
+	"context"
+	"net/url"
 	"strconv"
 	"strings"
 	"testing"
@@ -36,5 +38,26 @@ func TestRefusedPlanSaysNothingWasPlanned(t *testing.T) {
 	}
 	if !strings.Contains(body, "Nothing was planned. Correct the marked fields and try again.") || strings.Contains(body, "Nothing was saved") {
 		t.Error("a refused plan does not say that nothing was planned")
+	}
+}
+
+// Recording "the interval" (both methods at once, which the page's own
+// buttons never send: each records one method) is refused beside the
+// buttons with its rule, and nothing is saved; the page said only
+// "Correct the marked fields" and marked none.
+func TestQuickAgreeBothMethodsIsRefusedBesideTheButtons(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	before, _ := h.db.AgreedPriors(context.Background(), ws.ID)
+	res, body := h.post(quickPriorsPath(ws.ID)+"/agree", url.Values{"question": {strconv.FormatInt(qs[0].ID, 10)},
+		"construction": {"interval"}, "c_low": {"0.03"}, "c_high": {"0.12"}, "c_coverage": {"0.9"},
+		"rationale": {"invented"}, "confirm_open": {"on"}})
+	if res.StatusCode != 422 {
+		t.Fatalf("status %d", res.StatusCode)
+	}
+	if !strings.Contains(body, `id="err-construction"`) || !strings.Contains(body, "record one method") {
+		t.Error("the refusal is not shown beside the record buttons")
+	}
+	if after, _ := h.db.AgreedPriors(context.Background(), ws.ID); len(after) != len(before) {
+		t.Error("a prior was recorded")
 	}
 }
