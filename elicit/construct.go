@@ -220,6 +220,12 @@ func (c Construction) Describe() string {
 	return string(in.Method)
 }
 
+// PriorWarnings are the warnings of a prior however it was made (a
+// construction's, which are a fit's shape and certainty rules): U- or
+// J-shaped, or worth more than NearCertaintyESS trials. The report gives
+// them beside each agreed prior.
+func PriorWarnings(d ScaledBeta) []Warning { return constructionWarnings(d.Beta, d.OnUnit()) }
+
 // constructionWarnings flags a constructed Beta that is U-shaped (α and β
 // below 1), J-shaped (one of them below 1) or worth more than
 // NearCertaintyESS trials, as a fit's warnings do, in words for whoever
