@@ -29,3 +29,44 @@ func TestReportFlagsANearCertainAgreedPrior(t *testing.T) {
 		t.Error("the report's agreed priors do not flag a prior worth a million trials")
 	}
 }
+
+// The report lists the questions still without an agreed prior as a
+// sentence: "Q4 repair time, Q5 leaking sites.", without the space the
+// template's line breaks put before each comma and the full stop.
+func TestReportListsPendingQuestionsAsASentence(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	for _, q := range []workshop.Question{
+		{WorkshopID: ws.ID, Wording: "Repair time (invented)?", Quantity: "repair time", Lower: 2, Upper: 50, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault},
+		{WorkshopID: ws.ID, Wording: "Leaking sites (invented)?", Quantity: "leaking sites", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault},
+	} {
+		if err := h.db.AddQuestion(context.Background(), &q); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, body := h.get(workshopPath(ws.ID) + "/report")
+	i := strings.Index(body, "No prior agreed yet:")
+	if i < 0 {
+		t.Fatal("no list of questions without an agreed prior")
+	}
+	text := strings.Join(strings.Fields(stripTags(body[i:min(len(body), i+400)])), " ")
+	if !strings.Contains(text, "repair time, Q") || !strings.Contains(text, "leaking sites.") {
+		t.Errorf("pending questions read %q", text[:min(len(text), 120)])
+	}
+}
+
+// stripTags drops HTML tags, keeping the text between them.
+func stripTags(s string) string {
+	var b strings.Builder
+	in := false
+	for _, r := range s {
+		switch {
+		case r == '<':
+			in = true
+		case r == '>':
+			in = false
+		case !in:
+			b.WriteRune(r)
+		}
+	}
+	return b.String()
+}
