@@ -288,11 +288,13 @@ func UpdateFailure(q Question, p AgreedPrior, data []StudyData, err error) strin
 	return msg
 }
 
-// shortNumber writes v to four significant figures, without an exponent
-// below a billion.
+// shortNumber writes v to four significant figures, as the pages write
+// a Beta's shapes, without an exponent below a billion (9899408 is
+// "9899000").
 func shortNumber(v float64) string {
-	if math.Abs(v) >= 1000 && math.Abs(v) < 1e9 {
-		return strconv.FormatFloat(math.Round(v), 'f', -1, 64)
+	r, _ := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 4, 64), 64)
+	if math.Abs(r) >= 1000 && math.Abs(r) < 1e9 {
+		return strconv.FormatFloat(r, 'f', -1, 64)
 	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
+	return strconv.FormatFloat(r, 'g', -1, 64)
 }

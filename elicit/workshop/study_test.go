@@ -210,3 +210,17 @@ func TestPriorAgreedAfterTheData(t *testing.T) {
 		}
 	}
 }
+
+// UpdateFailure writes the shapes to four significant figures, as the
+// study page writes the agreed prior above it (Beta(9899000, 9899000)),
+// so the two read as the same prior.
+func TestUpdateFailureWritesShapesAsThePage(t *testing.T) {
+	q := Question{ID: 1, Lower: 0, Upper: 1}
+	p := AgreedPrior{QuestionID: 1, Dist: elicit.Unit(elicit.Beta{Alpha: 9899408.124, Beta: 9899408.124})}
+	data := []StudyData{{QuestionID: 1, Successes: 900_000, Trials: 900_000}}
+	_, err := StudyUpdate(q, p, data)
+	got := UpdateFailure(q, p, data, err)
+	if !strings.Contains(got, "The agreed prior Beta(9899000, 9899000) cannot be updated") || !strings.Contains(got, "Beta(10800000, 9899000)") {
+		t.Errorf("%q", got)
+	}
+}
