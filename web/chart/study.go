@@ -277,9 +277,17 @@ func newAssuranceModel(v AssuranceView) assuranceModel {
 	}
 	m.Title = "Assurance over the number of trials"
 	first, end := v.Assurance[0], v.Assurance[len(v.Assurance)-1]
-	m.Desc = fmt.Sprintf("The probability, before any data and under the prior, that the study meets its success criterion, at %d numbers of trials from %d to %d: %s at %d trials and %s at %d. The curve has steps because the number of successes is a whole number.",
-		len(v.Trials), v.Trials[0], v.Trials[len(v.Trials)-1], FormatPercent(first), v.Trials[0], FormatPercent(end), v.Trials[len(v.Trials)-1])
+	m.Desc = fmt.Sprintf("The probability, before any data and under the prior, that the study meets its success criterion, at %d numbers of trials from %d to %d: %s at %s and %s at %d. The curve has steps because the number of successes is a whole number.",
+		len(v.Trials), v.Trials[0], v.Trials[len(v.Trials)-1], FormatPercent(first), trialCount(v.Trials[0]), FormatPercent(end), v.Trials[len(v.Trials)-1])
 	return m
+}
+
+// trialCount is "1 trial" or "n trials".
+func trialCount(n int) string {
+	if n == 1 {
+		return "1 trial"
+	}
+	return strconv.Itoa(n) + " trials"
 }
 
 // IntervalsView is one posterior interval per prior, side by side: the

@@ -106,3 +106,13 @@ func TestIntervalsRows(t *testing.T) {
 		}
 	}
 }
+
+// The assurance curve's description counts its first number of trials in
+// the singular when it is 1 (every plan of at most 40 trials starts there).
+func TestAssuranceDescriptionSingularTrial(t *testing.T) {
+	v := AssuranceView{ID: "a", Trials: []int{1, 2, 3}, Assurance: []float64{0, 0.2, 0.4}, Planned: 3}
+	html := render(t, Assurance(v))
+	if !strings.Contains(html, "0% at 1 trial and 40% at 3") || strings.Contains(html, "1 trials") {
+		t.Error("the description says \"1 trials\"")
+	}
+}
