@@ -316,10 +316,10 @@ var criterionWords = map[string][2]string{
 func writePlanText(w io.Writer, o planOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g): mean %.4g, sd %.4g; %s\n", o.Alpha, o.Beta, o.PriorMean, o.PriorSD, o.Worth)
-	fmt.Fprintf(&b, "a study of %d trials gets %.3g%% of the weight in the posterior mean\n", o.Trials, 100*o.DataShare)
+	fmt.Fprintf(&b, "a study of %s gets %.3g%% of the weight in the posterior mean\n", countOf(o.Trials, "trial", "trials"), 100*o.DataShare)
 	q := o.PredictivePercentiles
-	fmt.Fprintf(&b, "prior predictive number of successes in %d trials: mean %.4g, sd %.4g; 5%% %d, 50%% %d, 95%% %d\n",
-		o.Trials, o.PredictiveMean, o.PredictiveSD, q.Q05, q.Q50, q.Q95)
+	fmt.Fprintf(&b, "prior predictive number of successes in %s: mean %.4g, sd %.4g; 5%% %d, 50%% %d, 95%% %d\n",
+		countOf(o.Trials, "trial", "trials"), o.PredictiveMean, o.PredictiveSD, q.Q05, q.Q50, q.Q95)
 	if len(o.Predictive) <= 31 {
 		fmt.Fprintf(&b, "  %9s  %s\n", "successes", "probability")
 		for x, p := range o.Predictive {
@@ -333,16 +333,16 @@ func writePlanText(w io.Writer, o planOutput) error {
 		if s.Direction == string(elicit.DirectionAbove) {
 			sign = ">"
 		}
-		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %d trials: %.4g\n", sign, s.Threshold, s.Confidence, o.Trials, *o.Assurance)
+		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %s: %.4g\n", sign, s.Threshold, s.Confidence, countOf(o.Trials, "trial", "trials"), *o.Assurance)
 		switch {
 		case s.SuccessesFrom > s.SuccessesTo:
-			fmt.Fprintf(&b, "  no outcome of %d trials meets the criterion\n", o.Trials)
+			fmt.Fprintf(&b, "  no outcome of %s meets the criterion\n", countOf(o.Trials, "trial", "trials"))
 		case s.SuccessesFrom == 0 && s.SuccessesTo == o.Trials:
-			fmt.Fprintf(&b, "  every outcome of %d trials meets the criterion\n", o.Trials)
+			fmt.Fprintf(&b, "  every outcome of %s meets the criterion\n", countOf(o.Trials, "trial", "trials"))
 		case s.SuccessesFrom == 0:
-			fmt.Fprintf(&b, "  the study succeeds if it sees at most %d successes\n", s.SuccessesTo)
+			fmt.Fprintf(&b, "  the study succeeds if it sees at most %s\n", countOf(s.SuccessesTo, "success", "successes"))
 		default:
-			fmt.Fprintf(&b, "  the study succeeds if it sees at least %d successes\n", s.SuccessesFrom)
+			fmt.Fprintf(&b, "  the study succeeds if it sees at least %s\n", countOf(s.SuccessesFrom, "success", "successes"))
 		}
 		fmt.Fprintf(&b, "  assurance over the number of trials:")
 		step := max(1, len(o.AssuranceCurve)/8)
@@ -385,7 +385,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 			if *s.MetAtTrials {
 				met = "met"
 			}
-			fmt.Fprintf(&b, "  at the planned %d trials: %s %.4g (%s)\n", o.Trials, words[1], *s.ValueAtTrials, met)
+			fmt.Fprintf(&b, "  at the planned %s: %s %.4g (%s)\n", countOf(o.Trials, "trial", "trials"), words[1], *s.ValueAtTrials, met)
 		}
 	}
 	for _, m := range o.Warnings {

@@ -31,3 +31,23 @@ func TestTypedLevelsReadAsTyped(t *testing.T) {
 		}
 	}
 }
+
+// One trial and one success are counted in the singular.
+func TestOneTrialInTheSingular(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"update", "--alpha", "2", "--beta", "3", "--successes", "1", "--trials", "1"}, "data 1 success in 1 trial"},
+		{[]string{"plan", "--alpha", "2", "--beta", "3", "--trials", "1", "--threshold", "0.5", "--direction", "below", "--confidence", "0.5"},
+			"a study of 1 trial gets"},
+	} {
+		code, out, errOut := runCLI(t, "", c.args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", c.args, code, errOut)
+		}
+		if !strings.Contains(out, c.want) || strings.Contains(out, "1 trials") || strings.Contains(out, " 1 successes") {
+			t.Errorf("%v: output lacks %q or counts one in the plural:\n%s", c.args, c.want, out)
+		}
+	}
+}

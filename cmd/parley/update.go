@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -129,7 +130,7 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 func writeUpdateText(w io.Writer, o updateOutput) error {
 	var b strings.Builder
 	pct := input.Typed(o.Level, true)
-	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g), data %d successes in %d trials\n", o.Prior.Alpha, o.Prior.Beta, o.Successes, o.Trials)
+	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g), data %s in %s\n", o.Prior.Alpha, o.Prior.Beta, countOf(o.Successes, "success", "successes"), countOf(o.Trials, "trial", "trials"))
 	fmt.Fprintf(&b, "posterior Beta(%.6g, %.6g): mean %.6g, sd %.6g\n", o.Alpha, o.Beta, o.Mean, o.SD)
 	fmt.Fprintf(&b, "%s%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
 	fmt.Fprintf(&b, "%s%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
@@ -142,4 +143,12 @@ func writeUpdateText(w io.Writer, o updateOutput) error {
 	fmt.Fprintln(&b, priorCaution)
 	_, err := io.WriteString(w, b.String())
 	return err
+}
+
+// countOf is "1 trial" or "n trials".
+func countOf(n int, one, many string) string {
+	if n == 1 {
+		return "1 " + one
+	}
+	return strconv.Itoa(n) + " " + many
 }
