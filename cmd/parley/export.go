@@ -19,9 +19,9 @@ func init() {
 func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("export", stderr)
 	dbPath := fs.String("db", "", "database `file`")
-	workshopID := fs.Int64("workshop", 0, "workshop `ID`")
+	workshopArg := fs.String("workshop", "", "workshop `ID`")
 	format := fs.String("format", "json", "json (the whole record), csv (one row per revision) or priors (one row per agreed prior, CSV)")
-	question := fs.Int64("question", 0, "export only this question `ID`")
+	questionArg := fs.String("question", "", "export only this question `ID`")
 	out := fs.String("out", "", "write to `file` instead of standard output")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
@@ -29,9 +29,19 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if *format != "json" && *format != "csv" && *format != "priors" {
 		return fail(stderr, "export", badInput("format", "must be json, csv or priors, got %q", *format))
 	}
-	if *workshopID <= 0 {
+	wid, err := id("workshop", *workshopArg)
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	if wid == 0 {
 		return fail(stderr, "export", badInput("workshop", "a workshop ID (a whole number above 0) is required"))
 	}
+	workshopID := &wid
+	qid, err := id("question", *questionArg)
+	if err != nil {
+		return fail(stderr, "export", err)
+	}
+	question := &qid
 	db, err := openExisting(*dbPath)
 	if err != nil {
 		return fail(stderr, "export", err)

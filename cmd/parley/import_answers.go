@@ -37,8 +37,11 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if *dbPath == "" {
 		return fail(stderr, "import-answers", badInput("db", "a database file is required"))
 	}
-	id, err := strconv.ParseInt(*workshopID, 10, 64)
-	if err != nil || id <= 0 {
+	wid, err := id("workshop", *workshopID)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	if wid == 0 {
 		return fail(stderr, "import-answers", badInput("workshop", "must be a workshop ID, a whole number above 0"))
 	}
 	ch := workshop.Channel(*channel)
@@ -67,15 +70,15 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	}
 	defer db.Close()
 	ctx := context.Background()
-	ws, err := db.Workshop(ctx, id)
+	ws, err := db.Workshop(ctx, wid)
 	if err != nil {
-		return fail(stderr, "import-answers", badInput("workshop", "no workshop %d in %s", id, *dbPath))
+		return fail(stderr, "import-answers", badInput("workshop", "no workshop %d in %s", wid, *dbPath))
 	}
-	qs, err := db.Questions(ctx, id)
+	qs, err := db.Questions(ctx, wid)
 	if err != nil {
 		return fail(stderr, "import-answers", err)
 	}
-	es, err := db.Experts(ctx, id)
+	es, err := db.Experts(ctx, wid)
 	if err != nil {
 		return fail(stderr, "import-answers", err)
 	}
@@ -100,7 +103,7 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			return fail(stderr, "import-answers", err)
 		}
 	}
-	fmt.Fprintf(stdout, "%s %d judgements in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), ws.Round, id, ch)
+	fmt.Fprintf(stdout, "%s %d judgements in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), ws.Round, wid, ch)
 	return exitOK
 }
 

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit/input"
@@ -58,6 +59,20 @@ func numbers(field, raw string) ([]float64, error) { return input.Numbers(field,
 // count parses a whole number in [0, max] given to flag --field.
 func count(field, raw string, max int) (int, error) {
 	return input.Whole(field, raw, 0, max)
+}
+
+// id parses an id given to flag --field: a whole number from 1 to
+// input.MaxID; "" is 0, for an optional flag left out.
+func id(field, raw string) (int64, error) {
+	s := strings.TrimSpace(raw)
+	if s == "" {
+		return 0, nil
+	}
+	n, err := strconv.ParseInt(s, 10, 64)
+	if err != nil || n < 1 || n > input.MaxID || strings.TrimLeft(s, "0123456789") != "" {
+		return 0, badInput(field, "must be an ID, a whole number from 1 to %d, got %q", int64(input.MaxID), input.Clip(s, 24))
+	}
+	return n, nil
 }
 
 // writeJSON prints v as one indented JSON object.

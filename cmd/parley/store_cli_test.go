@@ -166,7 +166,10 @@ func TestExportBadInput(t *testing.T) {
 		{"unknown workshop", []string{"--db", path, "--workshop", "99"}, "--workshop"},
 		{"unknown question", []string{"--db", path, "--workshop", ws, "--question", "99"}, "--question"},
 		{"bad format", []string{"--db", path, "--workshop", ws, "--format", "xml"}, "--format"},
-		{"not a number", []string{"--db", path, "--workshop", "one"}, "-workshop"},
+		{"not a number", []string{"--db", path, "--workshop", "one"}, "--workshop: must be an ID, a whole number from 1 to 9007199254740991"},
+		{"question not a number", []string{"--db", path, "--workshop", ws, "--question", "abc"}, `--question: must be an ID, a whole number from 1 to 9007199254740991, got "abc"`},
+		{"question below 1", []string{"--db", path, "--workshop", ws, "--question", "-3"}, "--question: must be an ID"},
+		{"workshop beyond the ids", []string{"--db", path, "--workshop", "9007199254740992"}, "--workshop: must be an ID"},
 	}
 	for _, tt := range tests {
 		t.Run(tt.name, func(t *testing.T) {
