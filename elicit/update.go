@@ -138,6 +138,27 @@ func HDI(d Beta, level float64) (lo, hi float64, err error) {
 	return lo, hi, nil
 }
 
+// HDINote says, in words, how HDI's interval for d is to be read when
+// d's shape makes it other than an interval around an interior mode, by
+// the same cases as HDI: "" for a Beta with both shapes above 1, or the
+// uniform. name is what the words call d ("the posterior").
+func HDINote(d Beta, name string) string {
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a == 1 && b == 1:
+		return ""
+	case a <= 1 && b >= 1:
+		return fmt.Sprintf("%s is J-shaped (alpha %.3g, at most 1): its density is highest at 0, so the highest-density interval starts at 0; "+
+			"report the equal-tailed interval where a lower limit above 0 is wanted", name, a)
+	case b <= 1 && a >= 1:
+		return fmt.Sprintf("%s is J-shaped (beta %.3g, at most 1): its density is highest at 1, so the highest-density interval ends at 1; "+
+			"report the equal-tailed interval where an upper limit below 1 is wanted", name, b)
+	case a < 1 && b < 1:
+		return name + " is U-shaped: its highest-density region is two pieces against the bounds; the highest-density interval is the shorter single interval with that probability"
+	}
+	return ""
+}
+
 // hdiInterior solves g(t) = log f(Q(t + level)) − log f(Q(t)) = 0 for the
 // lower tail mass t of the HDI of a Beta with α, β > 1, where g decreases
 // in t. It runs Newton's method on g, with

@@ -359,3 +359,40 @@ func TestUpdateWith(t *testing.T) {
 		t.Error("a level of 1 accepted")
 	}
 }
+
+// HDINote follows HDI's cases: a note wherever HDI's interval is not one
+// around an interior mode, including Beta(0.5, 1), whose density falls
+// from 0 although β is not above 1; none for the uniform or a Beta with
+// both shapes above 1.
+func TestHDINoteFollowsHDIsCases(t *testing.T) {
+	for _, c := range []struct {
+		d    Beta
+		want string // in the note, "" for none
+	}{
+		{Beta{1, 1}, ""},
+		{Beta{2, 5}, ""},
+		{Beta{0.5, 30}, "highest-density interval starts at 0"},
+		{Beta{0.5, 1}, "highest-density interval starts at 0"},
+		{Beta{1, 4}, "highest-density interval starts at 0"},
+		{Beta{30, 0.5}, "highest-density interval ends at 1"},
+		{Beta{0.5, 0.5}, "two pieces against the bounds"},
+	} {
+		got := HDINote(c.d, "the posterior")
+		if (c.want == "") != (got == "") || !strings.Contains(got, c.want) {
+			t.Errorf("HDINote(%v) = %q, want %q", c.d, got, c.want)
+			continue
+		}
+		if got == "" {
+			continue
+		}
+		// The note agrees with the interval HDI returns.
+		lo, hi, err := HDI(c.d, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		switch {
+		case strings.Contains(got, "starts at 0") && lo != 0, strings.Contains(got, "ends at 1") && hi != 1:
+			t.Errorf("HDI(%v) = [%g, %g], but the note says %q", c.d, lo, hi, got)
+		}
+	}
+}

@@ -3,6 +3,7 @@ package web
 import (
 	"bufio"
 	"context"
+	"html"
 	"math"
 	"net/http"
 	"net/url"
@@ -353,5 +354,34 @@ func TestStudySampleSizeIsRemembered(t *testing.T) {
 	}
 	if other := plan("0.06"); other.SizeRes == nil || other.SizeRes.N <= first.SizeRes.N || sampleSizes.Len() != before+2 {
 		t.Errorf("a narrower goal: %+v, %d remembered", other.SizeRes, sampleSizes.Len())
+	}
+}
+
+// TestStudyNotesAJShapedPosterior: the highest-density interval of a
+// J-shaped posterior starts at 0; the study page says so and points to
+// the equal-tailed interval, as parley update does (elicit.HDINote), and
+// says nothing for a posterior with an interior mode.
+func TestStudyNotesAJShapedPosterior(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	const note = "The posterior is J-shaped (alpha 0.5, at most 1): its density is highest at 0, so the highest-density interval starts at 0"
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"20"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	if _, page := h.get(sp); strings.Contains(page, "J-shaped (alpha") {
+		t.Fatal("the note shows for the demo's posterior, whose mode is inside (0, 1)")
+	}
+	ctx := context.Background()
+	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
+	p := ps[len(ps)-1]
+	p.ID, p.Rationale = 0, "Invented: a prior with its density highest at 0."
+	p.Dist.Beta = elicit.Beta{Alpha: 0.5, Beta: 10}
+	p.Source, p.Construction, p.Consensus = workshop.PriorFromPool, nil, nil
+	if err := h.db.AgreePrior(ctx, &p); err != nil {
+		t.Fatal(err)
+	}
+	_, page := h.get(sp)
+	if !strings.Contains(html.UnescapeString(page), note) {
+		t.Errorf("the study page of posterior Beta(0.5, 30) lacks the note %q", note)
 	}
 }

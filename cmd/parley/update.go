@@ -109,13 +109,8 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 	} else {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("prior-data conflict not checked: more than %d trials", elicit.MaxPredictiveTrials))
 	}
-	switch a, b := post.Alpha, post.Beta; {
-	case a < 1 && b < 1:
-		out.Warnings = append(out.Warnings, "the posterior is U-shaped: its highest-density region is two pieces against the bounds; hdi is the shorter single interval with that probability")
-	case a <= 1 && b > 1:
-		out.Warnings = append(out.Warnings, fmt.Sprintf("the posterior is J-shaped (alpha %.3g, at most 1): its density is highest at 0, so the highest-density interval starts at 0; report the equal-tailed interval where a lower limit above 0 is wanted", a))
-	case b <= 1 && a > 1:
-		out.Warnings = append(out.Warnings, fmt.Sprintf("the posterior is J-shaped (beta %.3g, at most 1): its density is highest at 1, so the highest-density interval ends at 1; report the equal-tailed interval where an upper limit below 1 is wanted", b))
+	if note := elicit.HDINote(post, "the posterior"); note != "" {
+		out.Warnings = append(out.Warnings, note)
 	}
 	nums := []float64{out.Alpha, out.Beta, out.Mean, out.SD, lo, hi, hlo, hhi}
 	if out.Conflict != nil {
