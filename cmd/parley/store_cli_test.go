@@ -126,7 +126,8 @@ func TestExportPriorsCSV(t *testing.T) {
 	if code != exitOK {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
-	if !strings.HasPrefix(out, "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at\n") {
+	// The header the issue spelled, then the columns added since, at the end.
+	if !strings.HasPrefix(out, "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution\n") {
 		t.Fatalf("header:\n%s", out)
 	}
 	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()

@@ -8,10 +8,14 @@ import (
 )
 
 // PriorsCSVHeader is the header of the agreed-priors CSV, a public
-// contract (`parley export --format priors` and the web download).
+// contract (`parley export --format priors` and the web download). The
+// last two columns travel with every row, since a row is often copied on
+// alone: invented ("true" for a demonstration workshop's made-up data)
+// and caution (Caution, the note the JSON record and the report carry).
 var PriorsCSVHeader = []string{
 	"question_id", "quantity", "units", "lower", "upper", "alpha", "beta",
 	"mean", "sd", "q05", "q50", "q95", "source", "rationale", "agreed_at",
+	"invented", "caution",
 }
 
 // WritePriorsCSV writes one row per question with an agreed prior, in
@@ -37,7 +41,8 @@ func (r Record) WritePriorsCSV(w io.Writer) error {
 		if words := a.ConstructionWords(); words != "" {
 			source += ": " + words // which construction, and its inputs
 		}
-		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano))
+		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano),
+			strconv.FormatBool(r.Workshop.Invented), Caution)
 		if err := cw.Write(row); err != nil {
 			return err
 		}

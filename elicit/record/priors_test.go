@@ -29,7 +29,7 @@ func TestWritePriorsCSV(t *testing.T) {
 	if err := r.WritePriorsCSV(&buf); err != nil {
 		t.Fatal(err)
 	}
-	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at\n"
+	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution\n"
 	if !strings.HasPrefix(buf.String(), header) {
 		t.Fatalf("header:\n%s", buf.String())
 	}
@@ -57,7 +57,8 @@ func TestWritePriorsCSV(t *testing.T) {
 			want = append(want, []string{strconv.FormatInt(q.ID, 10), q.Quantity, q.Units,
 				decimal(a.Dist.Lower), decimal(a.Dist.Upper), decimal(a.Dist.Alpha), decimal(a.Dist.Beta.Beta),
 				decimal(a.Mean), decimal(a.SD), decimal(a.Percentiles.P05), decimal(a.Percentiles.P50), decimal(a.Percentiles.P95),
-				string(a.Source), a.Rationale, a.At.UTC().Format(time.RFC3339Nano)})
+				string(a.Source), a.Rationale, a.At.UTC().Format(time.RFC3339Nano),
+				strconv.FormatBool(back.Workshop.Invented), back.Caution})
 		}
 	}
 	if len(want) != 1 || len(rows) != 2 {
