@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -27,6 +28,15 @@ func TestReportFlagsANearCertainAgreedPrior(t *testing.T) {
 	section := body[i:min(len(body), i+6000)]
 	if !strings.Contains(section, "worth about 1000000 observed trials") || !strings.Contains(section, "near-certainty") {
 		t.Error("the report's agreed priors do not flag a prior worth a million trials")
+	}
+	// Under the table, named by its question; the narrow "Made from"
+	// cell only points to it.
+	if !strings.Contains(section, `<li class="warning">Q`+strconv.Itoa(qs[0].Position)+" "+qs[0].Quantity+": ") ||
+		!strings.Contains(section, "see the warning below") {
+		t.Error("the prior's warning is not listed under the table, named by its question, with a pointer in its row")
+	}
+	if cell := section[strings.Index(section, `data-label="Made from"`):]; strings.Index(cell, "</td>") > strings.Index(cell, "observed trials") {
+		t.Error("the warning's words are in the narrow Made from cell")
 	}
 }
 
