@@ -3,12 +3,7 @@ package web
 import (
 	"context"
 	"errors"
-	"html"
-	"io"
-	"log/slog"
 	"net/http"
-	"net/http/cookiejar"
-	"net/http/httptest"
 	"net/url"
 	"strconv"
 	"strings"
@@ -72,26 +67,7 @@ func TestSaveMeetsACorrectedQuestion(t *testing.T) {
 	corrected := q
 	corrected.Upper = 0.35 // the expert's 0.4 now lies outside
 	st := &correctedMeanwhile{DB: h.db}
-	s, err := New(st, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ts := httptest.NewServer(s.Handler())
-	defer ts.Close()
-	jar, _ := cookiejar.New(nil)
-	c := &http.Client{Jar: jar, CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}
-	post := func(path string, form url.Values) (int, string) {
-		req, _ := http.NewRequest(http.MethodPost, ts.URL+path, strings.NewReader(form.Encode()))
-		req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
-		req.Header.Set("Origin", ts.URL)
-		res, err := c.Do(req)
-		if err != nil {
-			t.Fatal(err)
-		}
-		defer res.Body.Close()
-		b, _ := io.ReadAll(res.Body)
-		return res.StatusCode, html.UnescapeString(string(b))
-	}
+	post := serveOn(t, st)
 	answered := func() int {
 		rs, err := h.db.Revisions(ctx, ws.ID)
 		if err != nil {

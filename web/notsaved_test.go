@@ -50,22 +50,22 @@ func (fullDisk) DeleteWorkshop(context.Context, int64, string) error           {
 func (fullDisk) SetReasonWithheld(context.Context, int64, bool, string) error  { return errDiskFull }
 func (fullDisk) SaveRevisions(context.Context, []workshop.Revision) error      { return errDiskFull }
 
-// TestSaveOnAFullDisk: when the server cannot write (disk full, I/O
-// error), an expert's save and every facilitator form answer 503 with the
-// form again, the typed values kept, and a sentence saying nothing was
-// saved and what to do; not the generic error page (issue 13, item 5).
-// The real full disk is in systemtest (TestSaveOnAFullDisk there).
-func TestSaveOnAFullDisk(t *testing.T) {
-	h, ws, qs, es, links := seeded(t)
-	s, err := New(fullDisk{h.db}, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
+// serveOn serves Parley on st over loopback for the test and returns a
+// poster of forms from one browser (cookies kept, redirects not
+// followed, the page's own origin): each post gives the status and the
+// page, its HTML entities read back as text.
+func serveOn(t *testing.T, st Store) (post func(path string, form url.Values) (int, string)) {
+	t.Helper()
+	s, err := New(st, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
 	if err != nil {
 		t.Fatal(err)
 	}
 	ts := httptest.NewServer(s.Handler())
-	defer ts.Close()
+	t.Cleanup(ts.Close)
 	jar, _ := cookiejar.New(nil)
 	c := &http.Client{Jar: jar, CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}
-	post := func(path string, form url.Values) (int, string) {
+	return func(path string, form url.Values) (int, string) {
+		t.Helper()
 		req, _ := http.NewRequest(http.MethodPost, ts.URL+path, strings.NewReader(form.Encode()))
 		req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
 		req.Header.Set("Origin", ts.URL)
@@ -77,6 +77,16 @@ func TestSaveOnAFullDisk(t *testing.T) {
 		b, _ := io.ReadAll(res.Body)
 		return res.StatusCode, html.UnescapeString(string(b))
 	}
+}
+
+// TestSaveOnAFullDisk: when the server cannot write (disk full, I/O
+// error), an expert's save and every facilitator form answer 503 with the
+// form again, the typed values kept, and a sentence saying nothing was
+// saved and what to do; not the generic error page (issue 13, item 5).
+// The real full disk is in systemtest (TestSaveOnAFullDisk there).
+func TestSaveOnAFullDisk(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	post := serveOn(t, fullDisk{h.db})
 	secret, err := IssueFacilitatorSecret(context.Background(), h.db)
 	if err != nil {
 		t.Fatal(err)
