@@ -213,6 +213,8 @@ func scanWeights(row interface{ Scan(...any) error }) (workshop.Weights, error) 
 // change after the agreement, so the caller must say it knows
 // (p.RoundOpen); otherwise the prior is refused with an error wrapping
 // workshop.ErrRoundStillOpen. p.RoundOpen is stored as the round's real state.
+// A prior the question's recorded data could not update is refused
+// (workshop.CheckPriorUpdate).
 func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 	if err := p.Dist.Validate(); err != nil {
 		return err
@@ -246,6 +248,16 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		}
 		if open == 1 && !p.RoundOpen {
 			return fmt.Errorf("store: agree prior in round %d: %w", round, workshop.ErrRoundStillOpen)
+		}
+		// A prior the question's recorded data could not update is
+		// refused (the data are never removed).
+		var successes, trials int
+		if err := tx.QueryRowContext(ctx, `SELECT COALESCE(SUM(successes), 0), COALESCE(SUM(trials), 0) FROM study_data WHERE question_id = ?`, p.QuestionID).
+			Scan(&successes, &trials); err != nil {
+			return fmt.Errorf("store: agree prior: %w", err)
+		}
+		if err := workshop.CheckPriorUpdate(p.Dist.Beta, successes, trials); err != nil {
+			return err
 		}
 		// The weights in force, so a prior from the pool can be traced to
 		// the weights that made the pool.

@@ -123,3 +123,33 @@ func TestRecordDataKeepsTheUpdatePossible(t *testing.T) {
 		t.Errorf("the update of what was kept: %v", err)
 	}
 }
+
+// A prior that the question's recorded data could not update is refused
+// and not saved (workshop.CheckPriorUpdate), as a batch that would break
+// the update is: Beta(9.5e6, 9.5e6) after 600,000 successes in 600,000
+// trials would give Beta(1.01e7, 9.5e6), beyond elicit.MaxShape (1e7),
+// and the data are never removed. A prior within the limit is taken.
+func TestAgreeingAPriorTheDataCannotUpdate(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := p.qs[0].ID
+	agree := func(a, b float64) error {
+		return db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q, Source: workshop.PriorFromPool,
+			Dist: elicit.Unit(elicit.Beta{Alpha: a, Beta: b}), Rationale: "invented", RoundOpen: true})
+	}
+	must(t, agree(2, 8))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: q, Successes: 300_000, Trials: 300_000, Source: "first (invented)", ObservedOn: "2026-05-31"}))
+	must(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: q, Successes: 300_000, Trials: 300_000, Source: "second (invented)", ObservedOn: "2026-06-30"}))
+	var ie *elicit.InputError
+	if err := agree(9.5e6, 9.5e6); !errors.As(err, &ie) || ie.Field != "prior" || ie.Rule != elicit.RulePosteriorRange ||
+		!strings.Contains(ie.Detail, "600000 successes in 600000 trials already recorded would be Beta(10100000, 9500000)") {
+		t.Fatalf("a prior the data cannot update: %v, want prior refused by %q", err, elicit.RulePosteriorRange)
+	}
+	ps, err := db.AgreedPriors(ctx, p.w.ID)
+	must(t, err)
+	if len(ps) != 1 {
+		t.Fatalf("%d priors kept, want the first only", len(ps))
+	}
+	must(t, agree(9e6, 9e6)) // Beta(9.6e6, 9e6) after the data
+}

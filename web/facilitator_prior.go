@@ -77,6 +77,12 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 			s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{agree: f})
 			return
 		}
+		if isInputError(err) {
+			// A prior the recorded data could not update (CheckPriorUpdate).
+			f.Fail(err, nil)
+			s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
+			return
+		}
 		s.fail(w, r, err)
 		return
 	}

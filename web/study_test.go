@@ -8,6 +8,7 @@ import (
 	"net/http"
 	"net/url"
 	"os"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -383,5 +384,32 @@ func TestStudyNotesAJShapedPosterior(t *testing.T) {
 	_, page := h.get(sp)
 	if !strings.Contains(html.UnescapeString(page), note) {
 		t.Errorf("the study page of posterior Beta(0.5, 30) lacks the note %q", note)
+	}
+}
+
+// Agreeing, from the question's page, a prior that the question's
+// recorded data could not update is refused beside the form (422), in
+// words naming the prior, the data and the posterior, and nothing is
+// saved (workshop.CheckPriorUpdate, in the store's transaction).
+func TestAgreeingAPriorTheDataCannotUpdate(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	for _, batch := range []string{"2026-04-30", "2026-05-31"} {
+		if err := h.db.RecordData(ctx, &workshop.StudyData{QuestionID: qs[0].ID, Successes: 300_000, Trials: 300_000,
+			Source: "site log (invented)", ObservedOn: batch}); err != nil {
+			t.Fatal(err)
+		}
+	}
+	before, _ := h.db.AgreedPriors(ctx, ws.ID)
+	res, body := h.post(questionPath(ws.ID, qs[0].ID)+"/agree", url.Values{"source": {"construction"}, "construction": {"equivalent_sample"},
+		"c_successes": {"9450000"}, "c_trials": {"9900000"}, "rationale": {"Near-certain (invented)."}, "confirm_open": {"on"}})
+	if res.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("a prior the data cannot update: %d, want 422", res.StatusCode)
+	}
+	if want := "updated with the 600000 successes in 600000 trials already recorded would be Beta(1005"; !strings.Contains(html.UnescapeString(body), want) {
+		t.Errorf("the refusal does not say %q: %q", want, regexp.MustCompile(`(field-error|form-error)[^>]*>[^<]*`).FindAllString(body, -1))
+	}
+	if after, _ := h.db.AgreedPriors(ctx, ws.ID); len(after) != len(before) {
+		t.Errorf("%d priors after the refusal, want %d", len(after), len(before))
 	}
 }

@@ -263,11 +263,35 @@ func CheckDataUpdate(prior elicit.Beta, recordedSuccesses, recordedTrials int, d
 	return nil
 }
 
+// CheckPriorUpdate refuses a prior to be agreed for a question whose
+// recorded data (successes in trials, all its batches) it could not be
+// updated with: the posterior must stay within elicit.MaxShape, as
+// CheckDataUpdate asks of a new batch. The field is "prior", the
+// agreement as a whole.
+func CheckPriorUpdate(prior elicit.Beta, successes, trials int) error {
+	if trials == 0 {
+		return nil
+	}
+	if _, err := elicit.Posterior(prior, successes, trials); err != nil {
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Rule != elicit.RulePosteriorRange {
+			return err
+		}
+		return inputErr("prior", elicit.RulePosteriorRange,
+			"Beta(%s, %s) updated with the %d successes in %d trials already recorded would be Beta(%s, %s); agree a less certain prior",
+			shortNumber(prior.Alpha), shortNumber(prior.Beta), successes, trials,
+			shortNumber(prior.Alpha+float64(successes)), shortNumber(prior.Beta+float64(trials-successes)))
+	}
+	return nil
+}
+
 // UpdateFailure says why StudyUpdate(q, p, data) failed with err, in words
 // for the project lead (the study page, the report, the record). The one
 // refusal a valid record can reach is a posterior beyond elicit.MaxShape:
 // a prior agreed after the data so certain that the two together pass the
-// limit (CheckDataUpdate refuses such data for the prior already agreed).
+// limit (CheckDataUpdate refuses such data for the prior already agreed,
+// and CheckPriorUpdate such a prior for the data already recorded; a
+// record from before that check may still hold one).
 func UpdateFailure(q Question, p AgreedPrior, data []StudyData, err error) string {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
