@@ -265,20 +265,35 @@ func FitChips(edges []float64, counts []int) (Fit, error) {
 		return Fit{}, inputErr("counts", RuleChipsSpread, "chips in %d bins", used)
 	}
 	lower, upper := edges[0], edges[len(edges)-1]
-	inner := edges[1 : len(edges)-1]
+	inner, p := ChipsPoints(edges, counts)
 	u := make([]float64, len(inner))
-	p := make([]float64, len(inner))
-	cum := 0
 	for i, e := range inner {
 		u[i] = (e - lower) / (upper - lower)
-		cum += counts[i]
-		p[i] = float64(cum) / float64(total)
 	}
 	d, sse, resid, err := fitCumulative("edges", u, p)
 	if err != nil {
 		return Fit{}, err
 	}
 	return newFit(ScaledBeta{Beta: d, Lower: lower, Upper: upper}, p, inner, sse, resid), nil
+}
+
+// ChipsPoints are the points and probabilities a chips judgement
+// states, as FitChips fits them: the inner edges, each at the share of
+// the chips placed below it. counts has one count per bin, at least one
+// of them above 0.
+func ChipsPoints(edges []float64, counts []int) (points, probs []float64) {
+	total := 0
+	for _, c := range counts {
+		total += c
+	}
+	points = edges[1 : len(edges)-1]
+	probs = make([]float64, len(points))
+	cum := 0
+	for i := range points {
+		cum += counts[i]
+		probs[i] = float64(cum) / float64(total)
+	}
+	return points, probs
 }
 
 // CheckEdges checks bin edges: MinBins to MaxBins bins, finite and

@@ -122,16 +122,7 @@ func (q Question) StillAnswers(a Answer, kept *elicit.Fit) error {
 	var probs, points []float64
 	switch q.Format {
 	case FormatChips:
-		// As elicit.FitChips: the inner edges, at the share of chips below each.
-		points = q.BinEdges[1 : len(q.BinEdges)-1]
-		total, cum := 0, 0
-		for _, c := range a.Counts {
-			total += c
-		}
-		for i := range points {
-			cum += a.Counts[i]
-			probs = append(probs, float64(cum)/float64(total))
-		}
+		points, probs = elicit.ChipsPoints(q.BinEdges, a.Counts)
 	default:
 		j, err := q.Judgement(a)
 		if err != nil {
