@@ -13,13 +13,13 @@ const shapeNoise = 1e-9
 // density then rises without limit at that bound.
 func shapeBelowOne(x float64) bool { return x < 1-shapeNoise }
 
-// shapeText writes a shape parameter below 1 to three significant
-// figures, or as many more as it takes to read below 1 (0.99977 is
-// "0.9998", not "1").
+// shapeText writes a shape parameter to three significant figures, or as
+// many more as it takes to read on its own side of 1 (0.99977 is
+// "0.9998" and 1.000001 is "1.000001", not "1").
 func shapeText(x float64) string {
 	for digits := 3; digits < 17; digits++ {
 		s := strconv.FormatFloat(x, 'g', digits, 64)
-		if v, err := strconv.ParseFloat(s, 64); err == nil && v < 1 {
+		if v, err := strconv.ParseFloat(s, 64); err == nil && (v < 1) == (x < 1) && (v > 1) == (x > 1) {
 			return s
 		}
 	}

@@ -138,23 +138,33 @@ func HDI(d Beta, level float64) (lo, hi float64, err error) {
 	return lo, hi, nil
 }
 
-// HDINote says, in words, how HDI's interval for d is to be read when
-// d's shape makes it other than an interval around an interior mode, by
-// the same cases as HDI: "" for a Beta with both shapes above 1, or the
-// uniform. name is what the words call d ("the posterior").
-func HDINote(d Beta, name string) string {
+// HDINote says, in words, how the highest-density interval [lo, hi] of d
+// (HDI's) is to be read when d's shape makes it other than an interval
+// around an interior mode, by the same cases as HDI, and when an end of
+// an interval around a mode lies closer to a bound than float64 holds
+// (α or β just above 1, whose density climbs from 0 within 10^-1000 of
+// the bound): "" for a Beta with both shapes above 1 and ends that are
+// not bounds, or the uniform. name is what the words call d ("the
+// posterior").
+func HDINote(d Beta, lo, hi float64, name string) string {
 	a, b := d.Alpha, d.Beta
 	switch {
 	case a == 1 && b == 1:
 		return ""
 	case a <= 1 && b >= 1:
-		return fmt.Sprintf("%s is J-shaped (alpha %.3g, at most 1): its density is highest at 0, so the highest-density interval starts at 0; "+
-			"report the equal-tailed interval where a lower limit above 0 is wanted", name, a)
+		return fmt.Sprintf("%s is J-shaped (α = %s, at most 1): its density is highest at 0, so the highest-density interval starts at 0; "+
+			"report the equal-tailed interval where a lower limit above 0 is wanted", name, shapeText(a))
 	case b <= 1 && a >= 1:
-		return fmt.Sprintf("%s is J-shaped (beta %.3g, at most 1): its density is highest at 1, so the highest-density interval ends at 1; "+
-			"report the equal-tailed interval where an upper limit below 1 is wanted", name, b)
+		return fmt.Sprintf("%s is J-shaped (β = %s, at most 1): its density is highest at 1, so the highest-density interval ends at 1; "+
+			"report the equal-tailed interval where an upper limit below 1 is wanted", name, shapeText(b))
 	case a < 1 && b < 1:
 		return name + " is U-shaped: its highest-density region is two pieces against the bounds; the highest-density interval is the shorter single interval with that probability"
+	case lo == 0:
+		return fmt.Sprintf("%s's density climbs from 0 so steeply (α = %s, just above 1) that the highest-density interval's lower end is below 1e-308, "+
+			"the smallest number the computer holds, and is shown as 0; report the equal-tailed interval where a lower limit above 0 is wanted", name, shapeText(a))
+	case hi == 1:
+		return fmt.Sprintf("%s's density falls to 1 so steeply (β = %s, just above 1) that the highest-density interval's upper end is closer to 1 than the computer can show, "+
+			"and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, shapeText(b))
 	}
 	return ""
 }
@@ -199,7 +209,24 @@ func hdiInterior(d Beta, level float64) (lo, hi float64) {
 		}
 		t = next
 	}
-	return d.Quantile(t), d.Quantile(t + level)
+	lo, hi = d.Quantile(t), d.Quantile(t+level)
+	if lo < 0x1p-1022 { // below float64's normal range
+		// For α just above 1 the lower end is far below float64's range
+		// (10^-2900000 for Beta(1.000001, 50)), and the solve stops at
+		// the smallest subnormal its tail mass reaches. There F(lo) is
+		// nothing beside level, so hi is right, and f(lo) = f(hi) gives
+		// log lo = log f(hi)/(α − 1) − (β − 1)/(α − 1)·log(1 − lo), with
+		// log(1 − lo) = 0 in float64: lo rounded to float64, 0 when it
+		// underflows.
+		lo = math.Exp(logf(hi) / (a - 1))
+	}
+	if hi > 1-0x1p-50 { // within a few float64 steps of 1
+		// The mirror image for β just above 1, where float64's steps
+		// near 1 are 1.1e-16 wide: log(1 − hi) = (log f(lo) − (α − 1)·log hi)/(β − 1),
+		// so hi is 1 when 1 − hi is below half a step.
+		hi = -math.Expm1((logf(lo) - (a-1)*math.Log(hi)) / (b - 1))
+	}
+	return lo, hi
 }
 
 // PriorPredictive is the prior predictive distribution of the number of

@@ -253,6 +253,34 @@ func TestHDIScipy(t *testing.T) {
 	}
 }
 
+// An end of the HDI beyond float64's range is the correctly rounded
+// float64: 0 (or 1), not the smallest subnormal 4.9e-324 the solve for
+// its tail mass stops at. Against SciPy 1.10.1's equal-density solution in
+// logs (testdata/scipy, kind hdi_far_*); its other ends agree with R 4.2's
+// qbeta(level, a, b) to 5e-16.
+func TestHDIFarTailScipy(t *testing.T) {
+	los, his := readScipy(t, "hdi_far_lo"), readScipy(t, "hdi_far_hi")
+	if len(los) == 0 || len(los) != len(his) {
+		t.Fatalf("%d lower and %d upper reference ends", len(los), len(his))
+	}
+	for i, r := range los {
+		d := Beta{r.alpha, r.beta}
+		lo, hi, err := HDI(d, r.x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		close := func(got, want float64) bool {
+			if want == 0 || want == 1 {
+				return got == want
+			}
+			return relClose(got, want, 1e-9)
+		}
+		if !close(lo, r.value) || !close(hi, his[i].value) {
+			t.Errorf("Beta(%v, %v) level %v: [%.17g, %.17g], scipy [%.17g, %.17g]", r.alpha, r.beta, r.x, lo, hi, r.value, his[i].value)
+		}
+	}
+}
+
 func TestHDIShapes(t *testing.T) {
 	// Closed forms: Beta(1, b) has F(x) = 1 − (1−x)^b and Beta(a, 1) has
 	// F(x) = x^a (Johnson, Kotz & Balakrishnan 1995, ch. 25), so the HDI of
@@ -376,8 +404,15 @@ func TestHDINoteFollowsHDIsCases(t *testing.T) {
 		{Beta{1, 4}, "highest-density interval starts at 0"},
 		{Beta{30, 0.5}, "highest-density interval ends at 1"},
 		{Beta{0.5, 0.5}, "two pieces against the bounds"},
+		{Beta{1.000001, 50}, "lower end is below 1e-308"},
+		{Beta{50, 1.000001}, "upper end is closer to 1 than the computer can show"},
+		{Beta{1.01, 50}, ""}, // its lower end, 2.9e-130, is held
 	} {
-		got := HDINote(c.d, "the posterior")
+		lo, hi, err := HDI(c.d, 0.95)
+		if err != nil {
+			t.Fatal(err)
+		}
+		got := HDINote(c.d, lo, hi, "the posterior")
 		if (c.want == "") != (got == "") || !strings.Contains(got, c.want) {
 			t.Errorf("HDINote(%v) = %q, want %q", c.d, got, c.want)
 			continue
@@ -386,10 +421,6 @@ func TestHDINoteFollowsHDIsCases(t *testing.T) {
 			continue
 		}
 		// The note agrees with the interval HDI returns.
-		lo, hi, err := HDI(c.d, 0.95)
-		if err != nil {
-			t.Fatal(err)
-		}
 		switch {
 		case strings.Contains(got, "starts at 0") && lo != 0, strings.Contains(got, "ends at 1") && hi != 1:
 			t.Errorf("HDI(%v) = [%g, %g], but the note says %q", c.d, lo, hi, got)

@@ -365,11 +365,11 @@ func TestStudySampleSizeIsRemembered(t *testing.T) {
 func TestStudyNotesAJShapedPosterior(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	sp := studyPath(ws.ID, qs[0].ID)
-	const note = "The posterior is J-shaped (alpha 0.5, at most 1): its density is highest at 0, so the highest-density interval starts at 0"
+	const note = "The posterior is J-shaped (α = 0.5, at most 1): its density is highest at 0, so the highest-density interval starts at 0"
 	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"20"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("record data: %d %s", res.StatusCode, body)
 	}
-	if _, page := h.get(sp); strings.Contains(page, "J-shaped (alpha") {
+	if _, page := h.get(sp); strings.Contains(html.UnescapeString(page), "J-shaped (α") {
 		t.Fatal("the note shows for the demo's posterior, whose mode is inside (0, 1)")
 	}
 	ctx := context.Background()

@@ -480,6 +480,32 @@ func TestUpdateExtremeTails(t *testing.T) {
 	}
 }
 
+// TestUpdateHDIEndBeyondFloat64: for α just above 1 the highest-density
+// interval's lower end, about 10^-2900000 for Beta(1.000001, 50), is
+// printed as 0 (its float64) with a note saying why, not as the smallest
+// subnormal 4.94066e-324. The reference is SciPy 1.10.1's equal-density
+// solution in logs (testdata/scipy/update_pool_reference.py, hdi_far_*).
+func TestUpdateHDIEndBeyondFloat64(t *testing.T) {
+	var got struct {
+		HDI      [2]float64 `json:"hdi"`
+		Warnings []string   `json:"warnings"`
+	}
+	code, out, errOut := runCLI(t, "", "update", "--alpha", "1.000001", "--beta", "50", "--successes", "0", "--trials", "0", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	decodeJSON(t, out, &got)
+	const hi = 0.058155115040525195 // hdi_far_hi of Beta(1.000001, 50) at 0.95
+	if got.HDI[0] != 0 || math.Abs(got.HDI[1]-hi) > 1e-9*hi || !strings.Contains(strings.Join(got.Warnings, " "), "below 1e-308") {
+		t.Errorf("hdi %v, want [0, %v]; warnings %q", got.HDI, hi, got.Warnings)
+	}
+	_, text, _ := runCLI(t, "", "update", "--alpha", "1.000001", "--beta", "50", "--successes", "0", "--trials", "0")
+	if !strings.Contains(text, "highest-density interval [0, 0.0581551]") || strings.Contains(text, "e-324") ||
+		!strings.Contains(text, "α = 1.000001, just above 1") {
+		t.Errorf("text output:\n%s", text)
+	}
+}
+
 // TestPoolFlatGapAndTail: issue 11's pool reproducers through the
 // command: the tail quantile is R's root of the mixture CDF, and the
 // median of a symmetric pool of two distant experts is 0.5, reported as

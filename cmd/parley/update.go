@@ -109,7 +109,7 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 	} else {
 		out.Warnings = append(out.Warnings, fmt.Sprintf("prior-data conflict not checked: more than %d trials", elicit.MaxPredictiveTrials))
 	}
-	if note := elicit.HDINote(post, "the posterior"); note != "" {
+	if note := elicit.HDINote(post, hlo, hhi, "the posterior"); note != "" {
 		out.Warnings = append(out.Warnings, note)
 	}
 	nums := []float64{out.Alpha, out.Beta, out.Mean, out.SD, lo, hi, hlo, hhi}

@@ -15,6 +15,15 @@ Columns: kind,alpha,beta,n,x,value,components
                   the width ppf(t + level) - ppf(t) over t with
                   scipy.optimize.minimize_scalar (bounded), then refined by
                   scipy.optimize.brentq on pdf(ppf(t + level)) - pdf(ppf(t))
+  hdi_far_lo, hdi_far_hi
+                  the same interval for a shape just above 1, whose end lies
+                  closer to its bound than float64 holds: F(end) is then
+                  nothing beside level, so the other end is ppf(level) (or
+                  ppf(1 - level)), refined by the fixed point below, and the
+                  equal-density condition pdf(lo) = pdf(hi) is solved in logs,
+                  log lo = log f(hi)/(alpha - 1) with log(1 - lo) = 0;
+                  value is exp of that, 0.0 where it underflows (the
+                  correctly rounded float64), and mirrored for beta
   pool_q          linear-pool quantile at probability x of the mixture in
                   `components` ("alpha:beta:weight|..." with raw weights),
                   by scipy.optimize.brentq on the mixture CDF, xtol 1e-15
@@ -63,6 +72,20 @@ for a, b in [(2.0, 8.0), (5.0, 5.0), (1.5, 40.0), (30.0, 4.0), (3.4, 61.2),
             t = optimize.brentq(foc, lo_t, hi_t, xtol=1e-16, rtol=1e-15)
         row("hdi_lo", a, b, 0, level, d.ppf(t))
         row("hdi_hi", a, b, 0, level, d.ppf(t + level))
+
+# Highest-density intervals whose end is beyond float64's range.
+for a, b, level in [(1.01, 50.0, 0.95), (1.001, 50.0, 0.95), (1.000001, 50.0, 0.95), (1.0001, 3.0, 0.9)]:
+    d = stats.beta(a, b)
+    hi = d.ppf(level)
+    for _ in range(20):
+        loglo = ((a - 1) * math.log(hi) + (b - 1) * math.log1p(-hi)) / (a - 1)
+        lo = math.exp(loglo)
+        hi = d.ppf(level + d.cdf(lo))
+    row("hdi_far_lo", a, b, 0, level, lo)
+    row("hdi_far_hi", a, b, 0, level, hi)
+    # The mirror image, Beta(b, a): its upper end is 1 - lo, 1.0 in float64.
+    row("hdi_far_lo", b, a, 0, level, 1 - hi)
+    row("hdi_far_hi", b, a, 0, level, 1 - lo)
 
 # Linear pool quantiles.
 pools = [
