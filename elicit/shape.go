@@ -14,14 +14,24 @@ const shapeNoise = 1e-9
 func shapeBelowOne(x float64) bool { return x < 1-shapeNoise }
 
 // shapeText writes a shape parameter to three significant figures, or as
-// many more as it takes to read on its own side of 1 (0.99977 is
-// "0.9998" and 1.000001 is "1.000001", not "1").
+// many more as it takes to read on its own side of 1 (ShapeDigits).
 func shapeText(x float64) string {
-	for digits := 3; digits < 17; digits++ {
-		s := strconv.FormatFloat(x, 'g', digits, 64)
-		if v, err := strconv.ParseFloat(s, 64); err == nil && (v < 1) == (x < 1) && (v > 1) == (x > 1) {
-			return s
+	return strconv.FormatFloat(x, 'g', ShapeDigits(x, 3), 64)
+}
+
+// ShapeDigits is the number of significant figures, at least min, that a
+// shape parameter x takes to read on its own side of 1 when rounded:
+// whether α or β is below, at or above 1 decides the density's shape at
+// a bound (J- or U-shaped, or zero there), so a Beta written for people
+// must not put 0.99997 as "1" beside a warning that it is below 1, nor
+// 1.000001 as "1". It is min for most shapes, and at most 17, which
+// reads back as x itself.
+func ShapeDigits(x float64, min int) int {
+	for digits := min; digits < 17; digits++ {
+		v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', digits-1, 64), 64)
+		if err == nil && (v < 1) == (x < 1) && (v > 1) == (x > 1) {
+			return digits
 		}
 	}
-	return strconv.FormatFloat(x, 'g', -1, 64)
+	return 17
 }

@@ -82,3 +82,33 @@ func TestIntervalRefusalNamesTheTypedInterval(t *testing.T) {
 		}
 	}
 }
+
+// ShapeDigits keeps a shape on its own side of 1 when it is rounded for
+// people, and asks for no more figures than that (worked by hand).
+func TestShapeDigitsKeepTheSideOfOne(t *testing.T) {
+	for _, c := range []struct {
+		x    float64
+		min  int
+		want int
+	}{
+		{2.5, 3, 3},
+		{1, 4, 4},
+		{0.99977, 3, 4},      // 0.9998, not 1.00
+		{1.000001, 4, 7},     // 1.000001, not 1.000
+		{1.000001, 6, 7},     // as parley update prints it
+		{0.9999999, 6, 7},    // 0.9999999
+		{1 + 0x1p-52, 3, 17}, // 16 figures read as 1: 1.0000000000000002
+		{3.2e-5, 4, 4},       // far from 1
+		{1.23456789e6, 4, 4}, // far from 1
+		{1 - 0x1p-53, 3, 16}, // the largest float64 below 1
+	} {
+		got := ShapeDigits(c.x, c.min)
+		if got != c.want {
+			t.Errorf("ShapeDigits(%v, %d) = %d, want %d", c.x, c.min, got, c.want)
+		}
+		s := strconv.FormatFloat(c.x, 'g', got, 64)
+		if v, _ := strconv.ParseFloat(s, 64); (v < 1) != (c.x < 1) || (v > 1) != (c.x > 1) {
+			t.Errorf("%v written as %s", c.x, s)
+		}
+	}
+}

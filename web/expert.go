@@ -686,7 +686,7 @@ func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) histor
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
 	if fit, err := s.fits.fit(q, rv); err == nil {
-		h.Alpha, h.Beta = chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)
+		h.Alpha, h.Beta = chart.FormatShape(fit.Dist.Alpha), chart.FormatShape(fit.Dist.Beta.Beta)
 	}
 	return h
 }
@@ -721,7 +721,7 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *previewView {
 	p := &previewView{
 		Heading: "What " + sp.pick("your", "%s's") + " numbers imply",
-		Params:  fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatValue(fit.Dist.Alpha), chart.FormatValue(fit.Dist.Beta.Beta)),
+		Params:  fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatShape(fit.Dist.Alpha), chart.FormatShape(fit.Dist.Beta.Beta)),
 		Fit: chart.FitView{
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,

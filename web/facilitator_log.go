@@ -313,7 +313,7 @@ func (w eventWriter) weights(d eventDetail) string {
 // betaLabel writes a Beta with four significant figures, and its scale
 // when that is not [0, 1].
 func betaLabel(d elicit.ScaledBeta) string {
-	s := "Beta(" + fv(d.Alpha) + ", " + fv(d.Beta.Beta) + ")"
+	s := "Beta(" + sv(d.Alpha) + ", " + sv(d.Beta.Beta) + ")"
 	if d.Lower != 0 || d.Upper != 1 {
 		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
 	}

@@ -419,7 +419,7 @@ func reportPage(v reportView) templ.Component {
 							return templ_7745c5c3_Err
 						}
 						var templ_7745c5c3_Var19 string
-						templ_7745c5c3_Var19, templ_7745c5c3_Err = templ.JoinStringErrs(fv(rv.Fit.Dist.Alpha))
+						templ_7745c5c3_Var19, templ_7745c5c3_Err = templ.JoinStringErrs(sv(rv.Fit.Dist.Alpha))
 						if templ_7745c5c3_Err != nil {
 							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 164, Col: 39}
 						}
@@ -432,7 +432,7 @@ func reportPage(v reportView) templ.Component {
 							return templ_7745c5c3_Err
 						}
 						var templ_7745c5c3_Var20 string
-						templ_7745c5c3_Var20, templ_7745c5c3_Err = templ.JoinStringErrs(fv(rv.Fit.Dist.Beta.Beta))
+						templ_7745c5c3_Var20, templ_7745c5c3_Err = templ.JoinStringErrs(sv(rv.Fit.Dist.Beta.Beta))
 						if templ_7745c5c3_Err != nil {
 							return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 164, Col: 70}
 						}
@@ -767,7 +767,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var34 string
-					templ_7745c5c3_Var34, templ_7745c5c3_Err = templ.JoinStringErrs(fv(f.Dist.Alpha))
+					templ_7745c5c3_Var34, templ_7745c5c3_Err = templ.JoinStringErrs(sv(f.Dist.Alpha))
 					if templ_7745c5c3_Err != nil {
 						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 249, Col: 35}
 					}
@@ -780,7 +780,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var35 string
-					templ_7745c5c3_Var35, templ_7745c5c3_Err = templ.JoinStringErrs(fv(f.Dist.Beta.Beta))
+					templ_7745c5c3_Var35, templ_7745c5c3_Err = templ.JoinStringErrs(sv(f.Dist.Beta.Beta))
 					if templ_7745c5c3_Err != nil {
 						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 249, Col: 61}
 					}
@@ -1012,7 +1012,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var49 string
-				templ_7745c5c3_Var49, templ_7745c5c3_Err = templ.JoinStringErrs(fv(b.Dist.Alpha))
+				templ_7745c5c3_Var49, templ_7745c5c3_Err = templ.JoinStringErrs(sv(b.Dist.Alpha))
 				if templ_7745c5c3_Err != nil {
 					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 280, Col: 48}
 				}
@@ -1025,7 +1025,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var50 string
-				templ_7745c5c3_Var50, templ_7745c5c3_Err = templ.JoinStringErrs(fv(b.Dist.Beta.Beta))
+				templ_7745c5c3_Var50, templ_7745c5c3_Err = templ.JoinStringErrs(sv(b.Dist.Beta.Beta))
 				if templ_7745c5c3_Err != nil {
 					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 280, Col: 74}
 				}
@@ -1126,7 +1126,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var55 string
-					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(fv(h.Dist.Alpha))
+					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(sv(h.Dist.Alpha))
 					if templ_7745c5c3_Err != nil {
 						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 296, Col: 80}
 					}
@@ -1139,7 +1139,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var56 string
-					templ_7745c5c3_Var56, templ_7745c5c3_Err = templ.JoinStringErrs(fv(h.Dist.Beta.Beta))
+					templ_7745c5c3_Var56, templ_7745c5c3_Err = templ.JoinStringErrs(sv(h.Dist.Beta.Beta))
 					if templ_7745c5c3_Err != nil {
 						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 296, Col: 106}
 					}
@@ -1870,7 +1870,7 @@ func agreedCount(qs []record.Question) string {
 // priorLabel writes a prior as Beta(α, β), with its scale when that is not
 // [0, 1].
 func priorLabel(d elicit.ScaledBeta) string {
-	s := "Beta(" + fv(d.Alpha) + ", " + fv(d.Beta.Beta) + ")"
+	s := "Beta(" + sv(d.Alpha) + ", " + sv(d.Beta.Beta) + ")"
 	if d.Lower != 0 || d.Upper != 1 {
 		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
 	}

@@ -18,7 +18,7 @@ import (
 	"github.com/parley-elicit/parley/web/chart"
 )
 
-func betaText(b elicit.Beta) string { return "Beta(" + fv(b.Alpha) + ", " + fv(b.Beta) + ")" }
+func betaText(b elicit.Beta) string { return "Beta(" + sv(b.Alpha) + ", " + sv(b.Beta) + ")" }
 
 func intervalText(iv [2]float64) string { return fv(iv[0]) + " to " + fv(iv[1]) }
 

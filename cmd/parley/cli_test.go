@@ -501,6 +501,7 @@ func TestUpdateHDIEndBeyondFloat64(t *testing.T) {
 	}
 	_, text, _ := runCLI(t, "", "update", "--alpha", "1.000001", "--beta", "50", "--successes", "0", "--trials", "0")
 	if !strings.Contains(text, "highest-density interval [0, 0.0581551]") || strings.Contains(text, "e-324") ||
+		!strings.Contains(text, "posterior Beta(1.000001, 50)") ||
 		!strings.Contains(text, "α = 1.000001, just above 1") {
 		t.Errorf("text output:\n%s", text)
 	}

@@ -110,7 +110,7 @@ func fitCommand(probsArg, valuesArg, lowerArg, upperArg, format string) (fitOutp
 
 func writeFitText(w io.Writer, o fitOutput) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Beta(%.6g, %.6g) on [%g, %g]\n", o.Alpha, o.Beta, o.Lower, o.Upper)
+	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
 	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Percentiles.P05, o.Percentiles.P50, o.Percentiles.P95)
 	fmt.Fprintf(&b, "%-12s %-12s %-12s %s\n", "probability", "stated", "fitted", "F(stated)-p")
 	for i, p := range o.Probs {

@@ -107,7 +107,9 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	return exitOK
 }
 
-func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', 4, 64) }
+// fmtG writes a fitted α or β to four figures, or more to keep its side
+// of 1 (elicit.ShapeDigits).
+func fmtG(x float64) string { return strconv.FormatFloat(x, 'g', elicit.ShapeDigits(x, 4), 64) }
 
 func warningsNote(f elicit.Fit) string {
 	if len(f.Warnings) == 0 {

@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 )
 
@@ -81,6 +82,12 @@ func writeJSON(w io.Writer, v any) error {
 	enc.SetIndent("", "  ")
 	return enc.Encode(v)
 }
+
+// shape writes a Beta's α or β for people: six significant figures, or
+// as many more as it takes to read on its own side of 1
+// (elicit.ShapeDigits), so that 1.000001 is not printed "1" beside a note
+// that it is just above 1.
+func shape(x float64) string { return strconv.FormatFloat(x, 'g', elicit.ShapeDigits(x, 6), 64) }
 
 // finite reports whether every value is a finite number, the last check
 // before printing so that no NaN reaches the output.

@@ -317,11 +317,11 @@ func writePoolText(w io.Writer, o poolOutput) error {
 	case o.Beta == nil:
 		// No representation; a warning says why.
 	case o.BetaExact:
-		fmt.Fprintf(&b, "the pool is exactly Beta(%.6g, %.6g)\n", o.Beta.Alpha, o.Beta.Beta)
+		fmt.Fprintf(&b, "the pool is exactly Beta(%s, %s)\n", shape(o.Beta.Alpha), shape(o.Beta.Beta))
 	case o.BetaFit != nil:
 		f := o.BetaFit
-		fmt.Fprintf(&b, "best single Beta(%.6g, %.6g): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%; its sd is %.3g and its central 90%% interval %.3g times the pool's\n",
-			o.Beta.Alpha, o.Beta.Beta, f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95, f.SDRatio, f.IntervalRatio)
+		fmt.Fprintf(&b, "best single Beta(%s, %s): its CDF is within %.3g of the pool's; quantiles differ by %+.3g, %+.3g, %+.3g at 5%%, 50%%, 95%%; its sd is %.3g and its central 90%% interval %.3g times the pool's\n",
+			shape(o.Beta.Alpha), shape(o.Beta.Beta), f.MaxCDFError, f.QuantileDiffs.P05, f.QuantileDiffs.P50, f.QuantileDiffs.P95, f.SDRatio, f.IntervalRatio)
 	}
 	for _, m := range o.Warnings {
 		fmt.Fprintf(&b, "warning: %s\n", m)

@@ -248,7 +248,7 @@ func intervalFlag(err error) error {
 
 func writePriorText(w io.Writer, o priorOutput) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "Beta(%.6g, %.6g) on [%g, %g]\n", o.Alpha, o.Beta, o.Lower, o.Upper)
+	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
 	fmt.Fprintf(&b, "made from: %s\n", o.Description)
 	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Q05, o.Q50, o.Q95)
 	if o.CoverageAchieved != nil {
@@ -260,7 +260,7 @@ func writePriorText(w io.Writer, o priorOutput) error {
 		if alt.Method == string(elicit.MethodIntervalMoments) {
 			name = "moment match"
 		}
-		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%.6g, %.6g), which holds %.4g%% of its probability there\n", name, alt.Alpha, alt.Beta, 100*alt.CoverageAchieved)
+		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%s, %s), which holds %.4g%% of its probability there\n", name, shape(alt.Alpha), shape(alt.Beta), 100*alt.CoverageAchieved)
 	}
 	// The JSON's worth keeps the numbers; the words follow the bounds.
 	fmt.Fprintf(&b, "%s\n", elicit.WorthOf(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: o.Alpha, Beta: o.Beta}, Lower: o.Lower, Upper: o.Upper}))

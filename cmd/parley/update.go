@@ -125,8 +125,8 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 func writeUpdateText(w io.Writer, o updateOutput) error {
 	var b strings.Builder
 	pct := input.Typed(o.Level, true)
-	fmt.Fprintf(&b, "prior Beta(%.6g, %.6g), data %s in %s\n", o.Prior.Alpha, o.Prior.Beta, countOf(o.Successes, "success", "successes"), countOf(o.Trials, "trial", "trials"))
-	fmt.Fprintf(&b, "posterior Beta(%.6g, %.6g): mean %.6g, sd %.6g\n", o.Alpha, o.Beta, o.Mean, o.SD)
+	fmt.Fprintf(&b, "prior Beta(%s, %s), data %s in %s\n", shape(o.Prior.Alpha), shape(o.Prior.Beta), countOf(o.Successes, "success", "successes"), countOf(o.Trials, "trial", "trials"))
+	fmt.Fprintf(&b, "posterior Beta(%s, %s): mean %.6g, sd %.6g\n", shape(o.Alpha), shape(o.Beta), o.Mean, o.SD)
 	fmt.Fprintf(&b, "%s%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
 	fmt.Fprintf(&b, "%s%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
 	if c := o.Conflict; c != nil {

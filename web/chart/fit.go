@@ -166,7 +166,7 @@ func newFitModel(v FitView) fitModel {
 		m.KeyStated, m.SaidHeader, m.ChanceHeader = v.Whose+"'s stated values", v.Whose+" said", "fitted chance below that"
 	}
 
-	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatValue(v.Dist.Alpha), FormatValue(v.Dist.Beta.Beta))
+	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatShape(v.Dist.Alpha), FormatShape(v.Dist.Beta.Beta))
 	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
 	m.Desc = fitDescription(v, m, g)
 	return m

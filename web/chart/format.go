@@ -3,6 +3,8 @@ package chart
 import (
 	"math"
 	"strconv"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // FormatValue writes v with four significant figures and no
@@ -11,6 +13,14 @@ import (
 // "not available" so that no NaN reaches a page.
 func FormatValue(v float64) string {
 	return formatSig(v, 4)
+}
+
+// FormatShape writes a Beta's α or β as FormatValue does, with as many
+// more figures as it takes to read on its own side of 1
+// (elicit.ShapeDigits): 0.99997 is "0.99997", not "1", beside a warning
+// that the density is J-shaped.
+func FormatShape(v float64) string {
+	return formatSig(v, elicit.ShapeDigits(v, 4))
 }
 
 // formatSig writes v rounded to sig significant figures (1 ≤ sig ≤ 17)

@@ -6,6 +6,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // formatSigByParse is formatSig as first written, three conversions: round
@@ -87,5 +89,32 @@ func BenchmarkFormatValue(b *testing.B) {
 		_ = FormatValue(0.0123456)
 		_ = FormatValue(1234.5678)
 		_ = FormatPercent(0.05)
+	}
+}
+
+// A Beta's shapes are written on their own side of 1, however close: the
+// fit's table and the panel's legend must not write α = 0.99997 as "1"
+// beside a warning that the density is J-shaped (worked by hand).
+func TestFormatShapeKeepsTheSideOfOne(t *testing.T) {
+	for v, want := range map[float64]string{
+		0.99997:  "0.99997",
+		1.000001: "1.000001",
+		1:        "1",
+		2.02244:  "2.022",
+		40.5924:  "40.59",
+		3e-6:     "3e-6",
+	} {
+		if got := FormatShape(v); got != want {
+			t.Errorf("FormatShape(%v) = %q, want %q", v, got, want)
+		}
+	}
+	v := FitView{ID: "shape", Quantity: "share", Lower: 0, Upper: 1,
+		Dist: elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 0.99997, Beta: 7}, Lower: 0, Upper: 1}}
+	var b strings.Builder
+	if err := Fit(v).Render(t.Context(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "Beta(α = 0.99997, β = 7)") {
+		t.Errorf("the fit's table does not write α = 0.99997 as such:\n%s", b.String())
 	}
 }

@@ -122,7 +122,7 @@ func panelLegend(g *twinGeom, curves []Curve) []legendGeom {
 		p := g.percentiles[i]
 		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
 		if b, ok := c.beta(); ok {
-			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatValue(b.Alpha), FormatValue(b.Beta.Beta))
+			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatShape(b.Alpha), FormatShape(b.Beta.Beta))
 		}
 		out = append(out, lg)
 	}
