@@ -106,3 +106,37 @@ func TestEntryWarningsNameTheExpert(t *testing.T) {
 		}
 	}
 }
+
+// On the facilitator's page for entering a judgement, the form's labels
+// and hints speak of the expert by name, for every answer format; only
+// what is the facilitator's own (how the judgement reached them, how they
+// type values) says "you". The expert's own page keeps "your median".
+func TestEntryFormNamesTheExpert(t *testing.T) {
+	rig := newSheetRig(t)
+	ada := rig.experts[0]
+	own := strings.NewReplacer("How it reached you", "", "How you type values", "", "Either way you may add a % sign", "")
+	for i, want := range []string{
+		"Ada Quell's median: as likely below as above.",                                    // Q1, quantiles
+		"How sure is Ada Quell that the true value lies between their lowest and highest?", // Q2, interval
+		"Put more chips where Ada Quell thinks the value is more likely to be",             // Q3, chips
+	} {
+		_, body := rig.h.get(entryPath(rig.ws.ID, rig.qs[i].ID, ada.ID))
+		body = html.UnescapeString(body)
+		start := strings.Index(body, `<form class="form answer-form"`)
+		end := strings.Index(body[max(start, 0):], "</form>")
+		if start < 0 || end < 0 {
+			t.Fatalf("Q%d: no answer form in the entry page", i+1)
+		}
+		form := body[start : start+end]
+		if !strings.Contains(form, want) {
+			t.Errorf("Q%d: the entry form lacks %q", i+1, want)
+		}
+		if m := youWords.FindString(own.Replace(form)); m != "" {
+			t.Errorf("Q%d: the entry form speaks to the facilitator as the expert (%q)", i+1, m)
+		}
+	}
+	h, _, qs, _, links := seeded(t)
+	if _, page := h.get(links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)); !strings.Contains(page, "Your median: as likely below as above.") {
+		t.Error("the expert's own form lacks \"Your median\"")
+	}
+}

@@ -12,6 +12,8 @@ import (
 	"sort"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/a-h/templ"
 	"github.com/go-chi/chi/v5"
@@ -214,6 +216,13 @@ func (sp speaker) pick(you, named string) string {
 	return strings.ReplaceAll(named, "%s", sp.Name)
 }
 
+// upperFirst starts s with a capital, for a sentence that begins with a
+// name such as "the panel".
+func upperFirst(s string) string {
+	r, n := utf8.DecodeRuneInString(s)
+	return string(unicode.ToUpper(r)) + s[n:]
+}
+
 // readBack turns one stated pair P(X ≤ x) = p into a sentence, speaking of
 // the smaller tail so that 95% reads "1 in 20 ... above".
 func readBack(p, x float64, units string, percent bool, sp speaker) string {
@@ -243,8 +252,10 @@ func fittedBack(p, fittedP float64) string {
 	return "The fitted curve gives " + chance(1-fittedP) + " above it."
 }
 
-// newAnswerForm lays out the question's form with the typed values.
-func newAnswerForm(q workshop.Question, typed map[string]string) answerForm {
+// newAnswerForm lays out the question's form with the typed values; its
+// labels speak of the judgement's owner by sp ("you" on the expert's own
+// page, the expert's name where the facilitator enters it).
+func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) answerForm {
 	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: isProportion(q) && q.Format != workshop.FormatChips, Unit: unitProportion}
 	if typed["unit"] == unitPercent {
 		f.Unit = unitPercent
@@ -271,7 +282,8 @@ func newAnswerForm(q workshop.Question, typed map[string]string) answerForm {
 		add("lowest", "Lowest plausible value"+units, "", valueSuffix)
 		add("highest", "Highest plausible value"+units, "", valueSuffix)
 		add("best", "Best estimate"+units, "", valueSuffix)
-		add("confidence", "How sure are you that the true value lies between your lowest and highest?", "A percentage, for example 80 for 80% sure.", "%")
+		add("confidence", sp.pick("How sure are you that the true value lies between your lowest and highest?",
+			"How sure is %s that the true value lies between their lowest and highest?"), "A percentage, for example 80 for 80% sure.", "%")
 	case workshop.FormatChips:
 		for i := 0; i+1 < len(q.BinEdges); i++ {
 			add(fmt.Sprintf("counts[%d]", i),
@@ -281,7 +293,7 @@ func newAnswerForm(q workshop.Question, typed map[string]string) answerForm {
 		for i, p := range q.Probs {
 			hint := ""
 			if p == 0.5 {
-				hint = "Your median: as likely below as above."
+				hint = upperFirst(sp.pick("Your median: as likely below as above.", "%s's median: as likely below as above."))
 			}
 			add(fmt.Sprintf("values[%d]", i),
 				fmt.Sprintf("The value with a %s chance of being lower%s", chart.FormatPercent(p), units), hint, valueSuffix)
@@ -505,7 +517,7 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 		p = newPreview(sc.question, fit, a.Percent, speaker{})
 	} else {
 		status = http.StatusUnprocessableEntity
-		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil), f)}
+		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil, speaker{}), f)}
 	}
 	if fragment {
 		s.render(w, r, status, expertPreview(p))
@@ -647,7 +659,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 			Lower: chart.FormatValue(q.Lower), Upper: chart.FormatValue(q.Upper),
 			Format: q.Format,
 		},
-		Form: newAnswerForm(q, typed),
+		Form: newAnswerForm(q, typed, speaker{}),
 	}
 	v.Form.Reason = reason
 	// A calibration question is marked, and its true value shown, only
@@ -659,7 +671,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	if q.Frozen() {
 		v.Frozen = true
 		if n := len(sc.own); n > 0 {
-			v.Form = newAnswerForm(q, answerValues(q, sc.own[n-1].Answer))
+			v.Form = newAnswerForm(q, answerValues(q, sc.own[n-1].Answer), speaker{})
 		}
 	}
 	for i := len(sc.own) - 1; i >= 0; i-- {

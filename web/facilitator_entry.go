@@ -111,14 +111,14 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
 	fv := expertQuestionView{
 		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked,
-		Form:     newAnswerForm(sc.q, typed),
+		Form:     newAnswerForm(sc.q, typed, sc.speaker()),
 		Frozen:   sc.q.Frozen(),
 		OnBehalf: &onBehalf{Expert: sc.e.Name, Channel: channel},
 	}
 	fv.Form.Reason = reason
 	if fv.Frozen {
 		if n := len(own); n > 0 {
-			fv.Form = newAnswerForm(sc.q, answerValues(sc.q, own[n-1].Answer))
+			fv.Form = newAnswerForm(sc.q, answerValues(sc.q, own[n-1].Answer), sc.speaker())
 		}
 	}
 	v := entryView{Workshop: sc.ws, Question: sc.q, Expert: sc.e, Form: fv, Back: questionPath(sc.ws.ID, sc.q.ID)}
@@ -158,7 +158,7 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 		p = newPreview(sc.q, fit, a.Percent, sc.speaker())
 	} else {
 		status = http.StatusUnprocessableEntity
-		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)}
+		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil, sc.speaker()), f)}
 	}
 	if r.URL.Query().Get("fragment") == "1" {
 		s.render(w, r, status, expertPreview(p))
@@ -200,7 +200,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	if !ok {
-		s.entryAgain(w, r, sc, f, http.StatusUnprocessableEntity, "", &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil), f)})
+		s.entryAgain(w, r, sc, f, http.StatusUnprocessableEntity, "", &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil, sc.speaker()), f)})
 		return
 	}
 	rev := workshop.Revision{QuestionID: sc.q.ID, ExpertID: sc.e.ID, Reason: reason, Answer: a,

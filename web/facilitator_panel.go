@@ -241,7 +241,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 		af = newForm(nil)
 		af.Values.Set("source", string(workshop.PriorFromPool))
 	}
-	cf := newAnswerForm(q, formValues(af))
+	cf := newAnswerForm(q, formValues(af), speaker{Name: "the panel"})
 	applyErrors(&cf, af)
 	if forms.retire == nil {
 		forms.retire = newForm(nil)
