@@ -236,13 +236,13 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 	switch {
 	case shapeBelowOne(a) && shapeBelowOne(b):
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"This prior is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", shapeText(a), shapeText(b))})
+			"This prior is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other and least likely in the middle.", ShapeText(a), ShapeText(b))})
 	case shapeBelowOne(a):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (α = %s is below 1): its density rises without limit towards the lower bound.", shapeText(a))})
+			"This prior is J-shaped (α = %s is below 1): its density rises without limit towards the lower bound.", ShapeText(a))})
 	case shapeBelowOne(b):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"This prior is J-shaped (β = %s is below 1): its density rises without limit towards the upper bound.", shapeText(b))})
+			"This prior is J-shaped (β = %s is below 1): its density rises without limit towards the upper bound.", ShapeText(b))})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
 		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})

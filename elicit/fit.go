@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"math"
 	"sort"
-	"strconv"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -125,56 +124,6 @@ func weightWords(ess float64, proportion bool) string {
 	return fmt.Sprintf("has α + β of about %.0f (above %d)", ess, NearCertaintyESS)
 }
 
-// tailWarning is WarnTailMisfit for the stated outer point whose fitted
-// tail chance is furthest, as a ratio, from the stated one, if that ratio
-// exceeds TailRatioLimit. resid[i] is F(values[i]) − probs[i].
-func tailWarning(probs, values, resid []float64) (Warning, bool) {
-	worst, at := 0.0, -1
-	var stated, fitted float64
-	for i, p := range probs {
-		ts, tf := p, p+resid[i] // the lower tail below values[i]
-		if p > 0.5 {
-			ts, tf = 1-p, (1-p)-resid[i] // the upper tail above it
-		}
-		if !(ts > 0 && ts <= TailPointMax) || p == 0.5 {
-			continue
-		}
-		r := math.Inf(1)
-		if tf > 0 {
-			r = math.Max(tf/ts, ts/tf)
-		}
-		if r > worst {
-			worst, at, stated, fitted = r, i, ts, math.Max(tf, 0)
-		}
-	}
-	if at < 0 || !(worst > TailRatioLimit) {
-		return Warning{}, false
-	}
-	side, how := "below", "less"
-	if probs[at] > 0.5 {
-		side = "above"
-	}
-	if fitted > stated {
-		how = "more"
-	}
-	times := "about " + strconv.FormatFloat(worst, 'f', 0, 64) + " times"
-	switch {
-	case worst >= 1000:
-		times = "over 1000 times"
-	case worst < 10:
-		times = "about " + strconv.FormatFloat(worst, 'f', 1, 64) + " times"
-	}
-	pct := func(p float64) string {
-		if p < 1e-6 {
-			return "almost none (under 0.0001%)"
-		}
-		return strconv.FormatFloat(100*p, 'g', 3, 64) + "%"
-	}
-	return Warning{WarnTailMisfit, fmt.Sprintf(
-		"The fitted Beta puts %s of the chance %s %.4g, where the expert put %s: %s %s. Its probability gaps are small, but it does not match the expert's outer value; show the expert the fit.",
-		pct(fitted), side, values[at], pct(stated), times, how)}, true
-}
-
 // newFit fills in the report of a fit at the solution d, whose residuals
 // F(values[i]) − probs[i] are resid.
 func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64) Fit {
@@ -252,13 +201,13 @@ func fitWarnings(d Beta, maxErr float64, proportion bool) []Warning {
 	switch {
 	case shapeBelowOne(a) && shapeBelowOne(b):
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
-			"The fitted density is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", shapeText(a), shapeText(b))})
+			"The fitted density is U-shaped (α = %s and β = %s are both below 1): it says the value is most likely close to one bound or the other, and least likely in the middle. Check with the expert that this is what they meant.", ShapeText(a), ShapeText(b))})
 	case shapeBelowOne(a):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (α = %s is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", shapeText(a))})
+			"The fitted density is J-shaped (α = %s is below 1): it rises without limit towards the lower bound. Check with the expert that values right at the lower bound are the most likely.", ShapeText(a))})
 	case shapeBelowOne(b):
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
-			"The fitted density is J-shaped (β = %s is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", shapeText(b))})
+			"The fitted density is J-shaped (β = %s is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", ShapeText(b))})
 	}
 	if maxErr > PoorFitThreshold {
 		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(

@@ -13,9 +13,10 @@ const shapeNoise = 1e-9
 // density then rises without limit at that bound.
 func shapeBelowOne(x float64) bool { return x < 1-shapeNoise }
 
-// shapeText writes a shape parameter to three significant figures, or as
-// many more as it takes to read on its own side of 1 (ShapeDigits).
-func shapeText(x float64) string {
+// ShapeText writes a shape parameter to three significant figures, or as
+// many more as it takes to read on its own side of 1 (ShapeDigits):
+// 0.99977 is "0.9998", not "1".
+func ShapeText(x float64) string {
 	return strconv.FormatFloat(x, 'g', ShapeDigits(x, 3), 64)
 }
 

@@ -153,18 +153,18 @@ func HDINote(d Beta, lo, hi float64, name string) string {
 		return ""
 	case a <= 1 && b >= 1:
 		return fmt.Sprintf("%s is J-shaped (α = %s, at most 1): its density is highest at 0, so the highest-density interval starts at 0; "+
-			"report the equal-tailed interval where a lower limit above 0 is wanted", name, shapeText(a))
+			"report the equal-tailed interval where a lower limit above 0 is wanted", name, ShapeText(a))
 	case b <= 1 && a >= 1:
 		return fmt.Sprintf("%s is J-shaped (β = %s, at most 1): its density is highest at 1, so the highest-density interval ends at 1; "+
-			"report the equal-tailed interval where an upper limit below 1 is wanted", name, shapeText(b))
+			"report the equal-tailed interval where an upper limit below 1 is wanted", name, ShapeText(b))
 	case a < 1 && b < 1:
 		return name + " is U-shaped: its highest-density region is two pieces against the bounds; the highest-density interval is the shorter single interval with that probability"
 	case lo == 0:
 		return fmt.Sprintf("%s's density climbs from 0 so steeply (α = %s, just above 1) that the highest-density interval's lower end is below 1e-308, "+
-			"the smallest number the computer holds, and is shown as 0; report the equal-tailed interval where a lower limit above 0 is wanted", name, shapeText(a))
+			"the smallest number the computer holds, and is shown as 0; report the equal-tailed interval where a lower limit above 0 is wanted", name, ShapeText(a))
 	case hi == 1:
 		return fmt.Sprintf("%s's density falls to 1 so steeply (β = %s, just above 1) that the highest-density interval's upper end is closer to 1 than the computer can show, "+
-			"and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, shapeText(b))
+			"and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, ShapeText(b))
 	}
 	return ""
 }
