@@ -109,10 +109,14 @@ type Fit struct {
 	Warnings     []Warning            `json:"warnings"`
 }
 
-// Warning is one warning about a fit.
+// Warning is one warning about a fit. Tail is a tail_misfit warning's
+// particulars (elicit.Fit.TailMiss), for a page that lists many fits'
+// misses and words the rule once; the export leaves it out, as the
+// message says the same, and a record read back has none.
 type Warning struct {
-	Code    string `json:"code"`
-	Message string `json:"message"`
+	Code    string           `json:"code"`
+	Message string           `json:"message"`
+	Tail    *elicit.TailMiss `json:"-"`
 }
 
 // Pool is the linear opinion pool of the experts' current fits.
@@ -365,7 +369,13 @@ func FitOf(f elicit.Fit) *Fit {
 		Warnings:     []Warning{},
 	}
 	for _, w := range f.Warnings {
-		rf.Warnings = append(rf.Warnings, Warning{Code: string(w.Code), Message: w.Message})
+		rw := Warning{Code: string(w.Code), Message: w.Message}
+		if w.Code == elicit.WarnTailMisfit {
+			if m, ok := f.TailMiss(); ok {
+				rw.Tail = &m
+			}
+		}
+		rf.Warnings = append(rf.Warnings, rw)
 	}
 	return rf
 }
