@@ -24,7 +24,7 @@ func TestWarningsWriteAlphaAndBeta(t *testing.T) {
 		t.Fatal(err)
 	}
 	// An expert nearly certain on each question (invented answers).
-	var wants []string
+	var sums []string
 	for _, c := range []struct {
 		q      workshop.Question
 		values []float64
@@ -47,12 +47,20 @@ func TestWarningsWriteAlphaAndBeta(t *testing.T) {
 		}
 		_, body := h.get(questionPath(ws.ID, c.q.ID))
 		checkWarningWords(t, "panel Q"+strconv.Itoa(c.q.Position), body, want, c.q.IsProportion())
-		wants = append(wants, want)
+		sums = append(sums, sum)
 	}
-	// The report has both questions' warnings.
+	// The report words the warning once per question and gives each
+	// expert's α + β (reportView.fitWarningGroups).
 	_, report := h.get(workshopPath(ws.ID) + "/report")
-	for _, w := range wants {
-		checkWarningWords(t, "report", report, w, true)
+	for i, q := range []workshop.Question{qs[0], days} {
+		sec := reportSection(t, report, q.ID)
+		limit := strconv.Itoa(elicit.NearCertaintyESS)
+		want := "α + β is above " + limit
+		if q.IsProportion() {
+			want = "worth more than " + limit + " observed trials (α + β above " + limit + ")"
+		}
+		checkWarningWords(t, "report Q"+strconv.Itoa(q.Position), sec, want, q.IsProportion())
+		checkWarningWords(t, "report Q"+strconv.Itoa(q.Position), sec, es[0].Name+": α\u00a0+\u00a0β\u00a0=\u00a0"+sums[i], q.IsProportion())
 	}
 
 	// A U-shaped mean and SD, and a very narrow interval, on each scale.
