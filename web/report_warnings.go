@@ -96,7 +96,7 @@ func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning) {
 			return
 		}
 	case elicit.WarnPoorFit:
-		detail = "misses by " + strconv.FormatFloat(f.MaxProbError, 'f', 3, 64)
+		detail = "misses by " + gapText(f.MaxProbError)
 	case elicit.WarnUShaped:
 		detail = "α\u00a0=\u00a0" + elicit.ShapeText(a) + ", β\u00a0=\u00a0" + elicit.ShapeText(b)
 	case elicit.WarnJShaped:
@@ -109,6 +109,20 @@ func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning) {
 		detail = "α\u00a0+\u00a0β\u00a0=\u00a0" + strconv.FormatFloat(a+b, 'f', 0, 64)
 	}
 	g.Items = append(g.Items, warningItem{Expert: expert, Detail: detail})
+}
+
+// gapText writes a poor fit's largest probability gap to three decimals,
+// or as many more as it takes to read above the rule's limit: a gap of
+// 0.05004 is "0.05004", not "0.050" under a lead that says the gap is
+// more than 0.05.
+func gapText(gap float64) string {
+	for d := 3; d < 17; d++ {
+		s := strconv.FormatFloat(gap, 'f', d, 64)
+		if v, err := strconv.ParseFloat(s, 64); err == nil && v > elicit.PoorFitThreshold {
+			return s
+		}
+	}
+	return strconv.FormatFloat(gap, 'g', -1, 64)
 }
 
 // warningWords are a kind of warning's title, saying that n of the of

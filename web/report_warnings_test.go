@@ -105,3 +105,13 @@ func reportSection(t *testing.T, report string, id int64) string {
 	}
 	return sec
 }
+
+// A poor fit's gap reads above the limit its lead names (0.05): a gap of
+// 0.05003 is not written "0.050" (worked by hand).
+func TestPoorFitGapReadsAboveTheLimit(t *testing.T) {
+	for gap, want := range map[float64]string{0.05003: "0.05003", 0.0612: "0.061", 0.05000001: "0.05000001", 0.3: "0.300"} {
+		if got := gapText(gap); got != want {
+			t.Errorf("gapText(%v) = %q, want %q", gap, got, want)
+		}
+	}
+}
