@@ -2051,6 +2051,7 @@ func sourceShort(s workshop.PriorSource) string {
 	return string(s)
 }
 
+// statedLine is a fit's stated judgement as "5%: 0.02; 50%: 0.06; …".
 func statedLine(f *record.Fit) string {
 	s := ""
 	for i := range f.Probs {
@@ -2060,7 +2061,9 @@ func statedLine(f *record.Fit) string {
 		if i > 0 {
 			s += "; "
 		}
-		s += pct(f.Probs[i]) + ": " + fv(f.Stated[i])
+		// A no-break space keeps each probability with its value when a
+		// phone's narrow column wraps the line.
+		s += pct(f.Probs[i]) + ":\u00a0" + fv(f.Stated[i])
 	}
 	return s
 }
