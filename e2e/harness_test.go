@@ -230,11 +230,34 @@ func eval[T any](p *person, what, expr string) T {
 func (p *person) text() string {
 	p.t.Helper()
 	// A page that is still loading (after a script's form post) has no
-	// body yet; wait for it.
-	return eval[string](p, "read the page", `new Promise(resolve => {
+	// body yet; wait for it. A navigation that a script started commits
+	// while it is read (the sign-in page's post, under a loaded machine),
+	// and the page's context goes with it: read the next page then.
+	const read = `new Promise(resolve => {
 		const read = () => document.readyState === "complete" && document.body ? resolve(document.body.innerText) : setTimeout(read, 20);
 		read();
-	})`)
+	})`
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	for {
+		v, err := chromedp.Run(ctx, chromedp.Evaluate[string](read, chromedp.EvalAwaitPromise))
+		switch {
+		case err == nil:
+			return v
+		case ctx.Err() == nil && navigatedAway(err):
+			time.Sleep(50 * time.Millisecond)
+		default:
+			p.t.Fatalf("%s: read the page: %v", p.name, err)
+		}
+	}
+}
+
+// navigatedAway says err is an evaluation cut short by the page going
+// away under it (a navigation committed meanwhile), not a fault of the
+// page or the script.
+func navigatedAway(err error) bool {
+	m := err.Error()
+	return strings.Contains(m, "navigated or closed") || strings.Contains(m, "context was destroyed") || strings.Contains(m, "Cannot find context")
 }
 
 // url is the address in this person's address bar.
