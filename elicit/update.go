@@ -160,11 +160,11 @@ func HDINote(d Beta, lo, hi float64, name string) string {
 	case a < 1 && b < 1:
 		return name + " is U-shaped: its highest-density region is two pieces against the bounds; the highest-density interval is the shorter single interval with that probability"
 	case lo == 0:
-		return fmt.Sprintf("%s's density climbs from 0 so steeply (α = %s, just above 1) that the highest-density interval's lower end is below 1e-308, "+
-			"the smallest number the computer holds, and is shown as 0; report the equal-tailed interval where a lower limit above 0 is wanted", name, ShapeText(a))
+		return fmt.Sprintf("%s's density is 0 at 0 but rises from it extremely steeply (α = %s, just above 1), so the highest-density interval's lower end "+
+			"is smaller than the computer can hold (below 1e-323) and is shown as 0; report the equal-tailed interval where a lower limit above 0 is wanted", name, ShapeText(a))
 	case hi == 1:
-		return fmt.Sprintf("%s's density falls to 1 so steeply (β = %s, just above 1) that the highest-density interval's upper end is closer to 1 than the computer can show, "+
-			"and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, ShapeText(b))
+		return fmt.Sprintf("%s's density is 0 at 1 but falls to it extremely steeply (β = %s, just above 1), so the highest-density interval's upper end "+
+			"is closer to 1 than the computer can show and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, ShapeText(b))
 	}
 	return ""
 }

@@ -404,7 +404,7 @@ func TestHDINoteFollowsHDIsCases(t *testing.T) {
 		{Beta{1, 4}, "highest-density interval starts at 0"},
 		{Beta{30, 0.5}, "highest-density interval ends at 1"},
 		{Beta{0.5, 0.5}, "two pieces against the bounds"},
-		{Beta{1.000001, 50}, "lower end is below 1e-308"},
+		{Beta{1.000001, 50}, "lower end is smaller than the computer can hold"},
 		{Beta{50, 1.000001}, "upper end is closer to 1 than the computer can show"},
 		{Beta{1.01, 50}, ""}, // its lower end, 2.9e-130, is held
 	} {
