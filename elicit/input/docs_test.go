@@ -37,6 +37,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		{`A workshop runs up to ([\d,]+) Delphi rounds`, workshop.MaxRounds},
 		{`arrays and objects nested more than ([\d,]+) deep`, input.MaxJSONDepth},
 		{`with more than ([\d,]+) values`, input.MaxJSONValues},
+		{`take more than ([\d,]+) MiB of memory once read`, input.MaxJSONDecoded >> 20},
 	} {
 		m := regexp.MustCompile(c.re).FindStringSubmatch(text)
 		if m == nil {
@@ -57,6 +58,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		"input.MaxDetail": input.MaxDetail, "workshop.MaxRounds": workshop.MaxRounds,
 		"workshop.MaxChips": workshop.MaxChips, "input.MaxListItems": input.MaxListItems,
 		"input.MaxJSONDepth": input.MaxJSONDepth, "input.MaxJSONValues": input.MaxJSONValues,
+		"input.MaxJSONDecoded": input.MaxJSONDecoded >> 20,
 	}
 	seen := map[string]bool{}
 	for _, m := range regexp.MustCompile("([\\d,]+)(?: \\w+)? \\(`((?:input|workshop)\\.Max\\w+)`").FindAllStringSubmatch(string(dev), -1) {

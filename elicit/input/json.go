@@ -45,6 +45,10 @@ type JSONLayout struct {
 	// arrays and objects, the document itself included) the document
 	// may hold; 0 means MaxJSONValues.
 	MaxValues int
+	// MaxDecoded is how many bytes of Go values the document may decode
+	// into, as ScanJSON counts them (decodedCost); 0 means
+	// MaxJSONDecoded.
+	MaxDecoded int64
 }
 
 // MaxJSONDepth is how deeply ScanJSON lets arrays and objects nest. A
@@ -67,6 +71,27 @@ const RuleJSONDepth elicit.Rule = "must not nest arrays and objects more than 64
 // values in 7.5 MB), about 2.1 million at 64 MiB, so no record within
 // the byte limit is refused for its values unless it is twice as dense.
 const MaxJSONValues = 1 << 22
+
+// MaxJSONDecoded is how many bytes of Go values a document ScanJSON reads
+// may decode into, counted from the layout's types: each item of an
+// array the size of its Go element, each entry of a map its key's and
+// value's, each object behind a pointer its struct's, each string its
+// length. Values are not all alike: an empty object in a record's
+// revisions is 3 bytes of JSON and 232 of Go (a record.Revision), about
+// 760 once slices grow and the collector's headroom is counted, so
+// MaxJSONValues alone let a 12.5 MB record of 4,190,000 empty objects
+// take 3.2 GB and half a minute before it was refused. A real record
+// counts about half a byte per byte of JSON (the 200-expert record of
+// systemtest: 3.9 MB counted for 7.5 MB), about 34 MB at the record's
+// 64 MiB, so none is refused for this unless it is nearly four times as
+// dense. The empty objects are now refused by the scan at the 578,523rd,
+// in 0.25 s and 44 MB; the most of them that pass the scan (575,000)
+// take 0.5 GB to decode.
+const MaxJSONDecoded = 128 << 20
+
+// RuleJSONDecoded is broken by a document that would decode into more
+// bytes of Go values than its layout's MaxDecoded.
+const RuleJSONDecoded elicit.Rule = "must not decode into more memory than its limit"
 
 // RuleJSONValues is broken by a document holding more values than its
 // layout's MaxValues.
@@ -92,9 +117,17 @@ const maxKeyShown = 80
 func ScanJSON(doc []byte, l JSONLayout) error {
 	dec := json.NewDecoder(bytes.NewReader(doc))
 	dec.UseNumber()
-	s := &jsonScanner{dec: dec, doc: doc, l: l, left: l.MaxValues}
+	s := &jsonScanner{dec: dec, doc: doc, l: l, left: l.MaxValues, budget: l.MaxDecoded}
 	if s.left <= 0 {
 		s.left = MaxJSONValues
+	}
+	if s.budget <= 0 {
+		s.budget = MaxJSONDecoded
+	}
+	if l.Type != nil {
+		if err := s.spend(int64(l.Type.Size())); err != nil {
+			return err
+		}
 	}
 	if err := s.value(l.Type); err != nil {
 		return err
@@ -115,6 +148,17 @@ type jsonScanner struct {
 	steps []pathStep // from the document down to the value being read
 	depth int        // arrays and objects open
 	left  int        // values still allowed
+	// spent and budget are the bytes of Go values counted so far and
+	// allowed (MaxJSONDecoded).
+	spent, budget int64
+}
+
+// spend counts n more bytes of Go values against the budget.
+func (s *jsonScanner) spend(n int64) error {
+	if s.spent += n; s.spent > s.budget {
+		return s.err(RuleJSONDecoded, "more than %d MiB of values once read", s.budget>>20)
+	}
+	return nil
 }
 
 // pathStep is one step of a path: an array's item, an object's key or a
@@ -200,6 +244,7 @@ func (s *jsonScanner) next() (json.Token, []byte, error) {
 // value has no place in the layout: it is still read, and its strings and
 // keys checked).
 func (s *jsonScanner) value(t reflect.Type) error {
+	pointer := t != nil && t.Kind() == reflect.Pointer
 	for t != nil && t.Kind() == reflect.Pointer {
 		t = t.Elem()
 	}
@@ -220,6 +265,9 @@ func (s *jsonScanner) value(t reflect.Type) error {
 	if err := s.checkType(t, tok); err != nil {
 		return err
 	}
+	if err := s.spend(decodedCost(t, pointer, tok, raw)); err != nil {
+		return err
+	}
 	switch tok := tok.(type) {
 	case json.Delim:
 		if s.depth++; s.depth > MaxJSONDepth {
@@ -237,6 +285,11 @@ func (s *jsonScanner) value(t reflect.Type) error {
 			s.steps = append(s.steps, pathStep{item: true})
 			for i := 0; s.dec.More(); i++ {
 				s.steps[len(s.steps)-1].index = i
+				if elem != nil {
+					if err := s.spend(int64(elem.Size())); err != nil {
+						return err
+					}
+				}
 				if err := s.value(elem); err != nil {
 					return err
 				}
@@ -252,6 +305,27 @@ func (s *jsonScanner) value(t reflect.Type) error {
 		return s.here(CheckChars("", tok))
 	}
 	return nil
+}
+
+// decodedCost is the bytes of Go values one token adds beyond the place
+// it decodes into (which its array, map or struct counted): the struct
+// or value a non-null pointer points to, a string's text, and for a
+// place the layout does not type (a json.RawMessage, a time, an
+// interface) the token's raw text and a word for it.
+func decodedCost(t reflect.Type, pointer bool, tok json.Token, raw []byte) int64 {
+	var n int64
+	if pointer && t != nil && tok != nil {
+		n += int64(t.Size())
+	}
+	switch tok := tok.(type) {
+	case string:
+		n += int64(len(tok))
+	default:
+		if t == nil {
+			n += 16 + int64(len(raw))
+		}
+	}
+	return n
 }
 
 // checkType refuses a token that cannot decode into t, naming the JSON
@@ -390,6 +464,12 @@ func (s *jsonScanner) object(t reflect.Type) error {
 			vt = elem
 		default:
 			vt = elem
+		}
+		if fields == nil && elem != nil {
+			// A map's entry: its key and value, and the key's text.
+			if err := s.spend(int64(t.Key().Size()+elem.Size()) + int64(len(key))); err != nil {
+				return err
+			}
 		}
 		if err := s.value(vt); err != nil {
 			return err

@@ -161,3 +161,43 @@ func TestScanJSONNestingAndLongKeys(t *testing.T) {
 		}
 	}
 }
+
+// The decoded budget counts what each value becomes in Go: an item of
+// parts is a scanPart (24 bytes) and its note's text, main's object a
+// scanPart behind a pointer, a by_id entry its key and value. A document
+// over the budget is refused at the value that passes it, with its path,
+// before anything is decoded; within it, it passes.
+func TestScanJSONDecodedLimit(t *testing.T) {
+	small := scanLayout
+	base := int64(reflect.TypeFor[scanDoc]().Size())
+	part := int64(reflect.TypeFor[scanPart]().Size())
+	small.MaxDecoded = base + 3*part + int64(len("abcd"))
+	if err := ScanJSON([]byte(`{"parts":[{},{"note":"abcd"},{}]}`), small); err != nil {
+		t.Errorf("three parts within the budget: %v", err)
+	}
+	var ie *elicit.InputError
+	err := ScanJSON([]byte(`{"parts":[{},{"note":"abcde"},{}]}`), small)
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONDecoded {
+		t.Errorf("one byte of text over the budget: %v, want %q", err, RuleJSONDecoded)
+	}
+	err = ScanJSON([]byte(`{"parts":[{},{},{},{}]}`), small)
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONDecoded || ie.Field != "parts[3]" {
+		t.Errorf("a fourth part: %v, want parts[3] refused by %q", err, RuleJSONDecoded)
+	}
+	small.MaxDecoded = base + part - 1
+	err = ScanJSON([]byte(`{"main":{}}`), small)
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONDecoded || ie.Field != "main" {
+		t.Errorf("a part behind a pointer over the budget: %v, want main refused", err)
+	}
+	if err := ScanJSON([]byte(`{"main":null}`), small); err != nil {
+		t.Errorf("a null pointer costs nothing: %v", err)
+	}
+	small.MaxDecoded = base + 2*int64(reflect.TypeFor[int]().Size()+reflect.TypeFor[float64]().Size()) + 4
+	if err := ScanJSON([]byte(`{"by_id":{"21":1,"22":2}}`), small); err != nil {
+		t.Errorf("two entries within the budget: %v", err)
+	}
+	err = ScanJSON([]byte(`{"by_id":{"21":1,"22":2,"23":3}}`), small)
+	if !errors.As(err, &ie) || ie.Rule != RuleJSONDecoded || ie.Field != "by_id[23]" {
+		t.Errorf("a third entry: %v, want by_id[23] refused", err)
+	}
+}
