@@ -163,6 +163,11 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 		ys[k] = pdf(x)
 	}
 	s.top, _ = densityCap(ys)
+	if b, ok := c.beta(); ok {
+		if top, ok := boundedTop(b); ok && isFinite(top) {
+			s.top = top
+		}
+	}
 	s.topKnown = true
 	return s
 }

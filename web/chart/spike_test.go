@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"math"
 	"strconv"
 	"strings"
 	"testing"
@@ -71,4 +72,69 @@ func parseCoord(t *testing.T, s string) float64 {
 		t.Fatalf("coordinate %q: %v", s, err)
 	}
 	return v
+}
+
+// A bounded density that falls from its top, however steeply, is not a
+// spike: Beta(1, β) has f(0) = β and Beta(α, 1) has f(1) = α (Johnson,
+// Kotz & Balakrishnan 1995, ch. 25), and the posterior Beta(1, 21) of a
+// uniform prior after 20 trials without a success was drawn cut at two
+// thirds of its height with a note that it "rises above the top of the
+// chart". The axis now reaches its top, nothing is cut, and every drawn
+// point lies in the plot; a density that does rise without limit (α < 1)
+// is still cut.
+func TestABoundedDensityIsNotCut(t *testing.T) {
+	for _, c := range []struct {
+		d   elicit.ScaledBeta
+		top float64 // the density's largest value, worked by hand
+	}{
+		{sbeta(1, 21, 0, 1), 21},
+		{sbeta(1, 30, 0, 1), 30},
+		{sbeta(30, 1, 0, 1), 30},
+		{sbeta(1, 30, 0, 200), 30.0 / 200},
+		{sbeta(1.000001, 50, 0, 1), 50}, // its mode, 2e-8, holds about 50
+	} {
+		curves := []Curve{{Label: "Posterior", Role: RolePosterior, Dist: c.d}}
+		for _, lay := range layouts {
+			g := newTwin(lay, "share", "", c.d.Lower, c.d.Upper, curves, nil, false)
+			if len(g.ClippedBy) != 0 || strings.Contains(strings.Join(g.Notes, " "), "cut at") {
+				t.Errorf("%v %s: cut %v, notes %v", c.d.Beta, lay.Name, g.ClippedBy, g.Notes)
+			}
+			if g.DensityTop < c.top*(1-1e-6) {
+				t.Errorf("%v %s: axis top %v below the density's top %v", c.d.Beta, lay.Name, g.DensityTop, c.top)
+			}
+		}
+	}
+	curves := []Curve{{Label: "Posterior", Role: RolePosterior, Dist: sbeta(0.8, 30, 0, 1)}}
+	if g := newTwin(wideLayout, "share", "", 0, 1, curves, nil, false); len(g.ClippedBy) == 0 {
+		t.Error("Beta(0.8, 30), whose density rises without limit at 0, is not cut")
+	}
+}
+
+// The polyline of a Beta whose mode falls between two grid points reaches
+// the density's top: Beta(1.000001, 70) peaks at 1.4e-8 with f about 70
+// (worked by hand: 70·(1.4e-8)^(1e-6) ≈ 70), and the first grid point
+// after 0, 1.35 px on, holds only 63, where the line used to stop.
+func TestThePolylineReachesAModeBetweenGridPoints(t *testing.T) {
+	d := sbeta(1.000001, 70, 0, 1)
+	m, _ := d.Mode()
+	peak := d.PDF(m)
+	for _, lay := range layouts {
+		g := newTwin(lay, "share", "", 0, 1, []Curve{{Label: "Posterior", Role: RolePosterior, Dist: d}}, nil, false)
+		minY := math.Inf(1)
+		for _, tok := range strings.FieldsFunc(g.Lines[0].Density, func(r rune) bool { return r == ' ' || r == 'M' || r == 'L' }) {
+			xy := strings.Split(tok, ",")
+			if len(xy) != 2 {
+				continue
+			}
+			y, err := strconv.ParseFloat(xy[1], 64)
+			if err != nil {
+				t.Fatalf("%s: token %q", lay.Name, tok)
+			}
+			minY = math.Min(minY, y)
+		}
+		want := lay.Top + lay.DensityH*(1-peak/g.DensityTop)
+		if math.Abs(minY-want) > 0.5 {
+			t.Errorf("%s: the line's top is at y = %.2f px, the density's top at %.2f px", lay.Name, minY, want)
+		}
+	}
 }

@@ -8,6 +8,8 @@ import (
 	"strings"
 
 	"github.com/a-h/templ"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // A twin is the layout every curve picture shares: a density plot above a
@@ -264,10 +266,14 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 				}
 				ys[i] = c.sample(xs, x0, x1)
 			}
-			p.density, p.clipped = dens.linePath(xs, ys[i].pdf)
-			p.cumul, _ = cumul.linePath(xs, ys[i].cdf)
+			lxs, lys := xs, ys[i]
+			if b, ok := c.beta(); ok {
+				lxs, lys = withMode(b, xs, ys[i])
+			}
+			p.density, p.clipped = dens.linePath(lxs, lys.pdf)
+			p.cumul, _ = cumul.linePath(lxs, lys.cdf)
 			if area {
-				p.area = dens.areaPath(xs, ys[i].pdf)
+				p.area = dens.areaPath(lxs, lys.pdf)
 			}
 			return p
 		}
@@ -290,6 +296,25 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", "), percent: percent}
 	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
 	return g
+}
+
+// withMode adds a Beta's interior mode to its samples on the grid xs
+// when it falls between two of them, so that the polyline reaches the
+// density's top: for a shape just above 1 the top lies within a pixel of
+// the bound (Beta(1.000001, 70) peaks at 1.4e-8), where the grid steps
+// over it and the line stopped a tenth short. The grid and the
+// remembered samples are left as they are.
+func withMode(b elicit.ScaledBeta, xs []float64, s sampled) ([]float64, sampled) {
+	m, ok := b.Mode()
+	k := sort.SearchFloat64s(xs, m) // the first grid point at or after m
+	if !ok || k == 0 || k == len(xs) || !(xs[k-1] < m && m < xs[k]) || len(s.pdf) != len(xs) || len(s.cdf) != len(xs) {
+		return xs, s
+	}
+	insert := func(v []float64, at float64) []float64 {
+		out := make([]float64, 0, len(v)+1)
+		return append(append(append(out, v[:k]...), at), v[k:]...)
+	}
+	return insert(xs, m), sampled{pdf: insert(s.pdf, b.PDF(m)), cdf: insert(s.cdf, b.CDF(m))}
 }
 
 // spikeRatio is how many times the experts' median density top the axis
