@@ -177,6 +177,9 @@ type historyRow struct {
 // p is within 0.2% of 1/N for a whole N of at least 3, "about 1 in 39" for
 // other probabilities below 0.2, otherwise a percentage ("a 47.5%
 // chance"), which reads better than "1 in 2" for a value near a half.
+// Every phrase but "no chance" and "certainty" ends in "chance", so it
+// fits "there is … the value is below" and "the fitted curve gives …
+// below it" alike.
 func chance(p float64) string {
 	switch {
 	case math.IsNaN(p) || math.IsInf(p, 0) || p < 0 || p > 1:
@@ -186,7 +189,7 @@ func chance(p float64) string {
 	case p == 1:
 		return "certainty"
 	case p < 0.001:
-		return "less than 1 in 1000"
+		return "less than a 1 in 1000 chance"
 	}
 	n := 1 / p
 	r := math.Round(n)

@@ -596,7 +596,7 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		{0.0258, "about a 1 in 39 chance"},
 		{0.4, "a 40% chance"},
 		{0.508, "a 50.8% chance"},
-		{0.0004, "less than 1 in 1000"},
+		{0.0004, "less than a 1 in 1000 chance"},
 		{0, "no chance"},
 	}
 	for _, c := range cases {
@@ -611,10 +611,16 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		{0.05, 0.012, "You are saying there is a 1 in 20 chance the value is below 0.012 per demand."},
 		{0.95, 0.3, "You are saying there is a 1 in 20 chance the value is above 0.3 per demand."},
 		{0.5, 0.1, "You are saying the value is as likely to be below 0.1 per demand as above it."},
+		// A four-value interval held 99.95% sure leaves 1 in 4000 in each tail.
+		{0.00025, 0.01, "You are saying there is less than a 1 in 1000 chance the value is below 0.01 per demand."},
 	} {
 		if got := readBack(c.p, c.x, "per demand", false, speaker{}); got != c.want {
 			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
 		}
+	}
+	// A fit far out in a tail reads as a chance too.
+	if got, want := fittedBack(0.95, 0.99995), "The fitted curve gives less than a 1 in 1000 chance above it."; got != want {
+		t.Errorf("fitted far in the tail: %q, want %q", got, want)
 	}
 	// For an expert who typed percentages, the read-back speaks in them.
 	if got, want := readBack(0.05, 0.03, "proportion of mains", true, speaker{}), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
