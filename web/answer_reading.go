@@ -294,7 +294,9 @@ func previousLabel(q workshop.Question, field string) string {
 	}
 	var i int
 	if _, err := fmt.Sscanf(field, "values[%d]", &i); err == nil && i > 0 && i <= len(q.Probs) {
-		return "the value above it (your " + chart.FormatPercent(q.Probs[i-1]) + " value)"
+		// Its name, not "the value above it": above on the form is below
+		// in size, and "larger than the value above it" reads as a riddle.
+		return "your " + chart.FormatPercent(q.Probs[i-1]) + " value"
 	}
 	return "the value before it"
 }

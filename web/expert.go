@@ -790,14 +790,15 @@ func applyErrors(af *answerForm, f *Form) {
 }
 
 // problemSummary says, for the live preview, which field stops the fit.
+// The messages end their own sentences; one full stop closes each.
 func problemSummary(af answerForm, f *Form) string {
 	for _, fl := range af.Fields {
 		if msg := f.Error(fl.Name); msg != "" {
-			return "No fit yet. " + fl.Label + ": " + msg + "."
+			return "No fit yet. " + fl.Label + ": " + strings.TrimSuffix(msg, ".") + "."
 		}
 	}
 	if msg := f.Error(""); msg != "" {
-		return "No fit yet: " + msg + "."
+		return "No fit yet: " + strings.TrimSuffix(msg, ".") + "."
 	}
 	return "No fit yet: check the marked fields."
 }

@@ -309,7 +309,7 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		rule  string
 		typed string // a typed value that must be shown again
 	}{
-		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", "Must be larger than the value above it (your 5% value).", "0.01"},
+		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", "Must be larger than your 5% value.", "0.01"},
 		{"outside bounds", g.q, quantiles("0.05", "0.2", "1.5"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 1.5. Did you mean 1.5%?", "1.5"},
 		{"not a number", g.q, quantiles("0.05", "abc", "0.4"), "f-values-1", "“abc” is not a number Parley can read.", "abc"},
 		{"decimal comma", g.q, quantiles("0,05", "0.2", "0.4"), "f-values-0", "“0,05” is not a number Parley can read.", "0,05"},

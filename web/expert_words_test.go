@@ -143,6 +143,27 @@ func TestExpertPageWording(t *testing.T) {
 	}
 }
 
+// The preview's summary of what stops the fit quotes the field's message
+// once, with one full stop, and names the value a value must exceed by
+// its label, not by its place on the form ("the value above it", which is
+// the smaller one).
+func TestNoFitYetReadsAsOneSentence(t *testing.T) {
+	g := newExpertRig(t)
+	_, frag := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.3", "0.2", "0.4"))
+	want := "No fit yet. The value with a 50% chance of being lower (proportion): Must be larger than your 5% value."
+	if !strings.Contains(frag, want) {
+		t.Errorf("the preview does not say %q:\n%s", want, frag)
+	}
+	if strings.Contains(frag, "..") || strings.Contains(frag, "value above it") {
+		t.Errorf("the preview's summary reads badly:\n%s", frag)
+	}
+	// A message about the answer as a whole keeps one full stop too.
+	_, frag = g.post(g.qpath(0, g.qc)+"/preview?fragment=1", url.Values{"counts[0]": {"20"}})
+	if !strings.Contains(frag, "No fit yet:") || strings.Contains(frag, "..") {
+		t.Errorf("the chips preview's summary reads badly:\n%s", frag)
+	}
+}
+
 // A link that leads nowhere says to ask the facilitator for a new one.
 func TestDeadLinkSaysWhatToDo(t *testing.T) {
 	g := newExpertRig(t)
