@@ -114,12 +114,19 @@ func formatSig(v float64, sig int) string {
 }
 
 // FormatPercent writes a probability as a percentage without noise:
-// 0.05 → "5%", 0.025 → "2.5%", 0.3333 → "33.3%".
+// 0.05 → "5%", 0.025 → "2.5%", 0.3333 → "33.3%". A probability short of 1
+// keeps as many more figures as it takes to stay short of 100%
+// (elicit.ShapeDigits): a fitted chance of 0.99977 below an expert's 95%
+// value is "99.98%", not "100%", which reads as certainty.
 func FormatPercent(p float64) string {
 	if math.IsNaN(p) || math.IsInf(p, 0) {
 		return "not available"
 	}
-	return formatSig(p*100, 3) + "%"
+	sig := 3
+	if p > 0.99 && p < 1 {
+		sig = elicit.ShapeDigits(p, 3)
+	}
+	return formatSig(p*100, sig) + "%"
 }
 
 // coord writes an SVG coordinate with two decimals. Callers guard against

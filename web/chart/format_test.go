@@ -118,3 +118,36 @@ func TestFormatShapeKeepsTheSideOfOne(t *testing.T) {
 		t.Errorf("the fit's table does not write α = 0.99997 as such:\n%s", b.String())
 	}
 }
+
+// A chance short of certainty is never written as 100%: the fit's table
+// once gave "100%" as the fitted chance below an expert's 95% value where
+// the curve leaves 1 in 4000 above it (worked by hand).
+func TestFormatPercentStaysShortOfCertainty(t *testing.T) {
+	for p, want := range map[float64]string{
+		0.05:               "5%",
+		0.025:              "2.5%",
+		1.0 / 3:            "33.3%",
+		0.994:              "99.4%",
+		0.9996:             "99.96%",
+		0.99977:            "99.98%",
+		0.99999:            "99.999%",
+		1:                  "100%",
+		0:                  "0%",
+		0.9999999999999999: "99.99999999999999%",
+	} {
+		if got := FormatPercent(p); got != want {
+			t.Errorf("FormatPercent(%v) = %q, want %q", p, got, want)
+		}
+	}
+	v := FitView{ID: "tail", Quantity: "share", Lower: 0, Upper: 1,
+		Dist:        elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 4.396, Beta: 77.6}, Lower: 0, Upper: 1},
+		Points:      []Point{{X: 0.02, P: 0.05}, {X: 0.05, P: 0.5}, {X: 0.2, P: 0.95}},
+		Percentiles: [3]float64{0.01997, 0.05, 0.09955}}
+	var b strings.Builder
+	if err := Fit(v).Render(t.Context(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if strings.Contains(b.String(), "<td>100%</td>") || strings.Contains(b.String(), "fitted curve: 100%") {
+		t.Errorf("the fit's table writes a chance short of 1 as 100%%:\n%s", b.String())
+	}
+}
