@@ -510,3 +510,15 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 		}
 	}
 }
+
+// The panel's caption names its plots by their axis titles ("density",
+// "chance below"), as an expert reads them on their own page, not as
+// "cumulative probabilities".
+func TestPanelCaptionUsesTheAxesWords(t *testing.T) {
+	html := render(t, Panel(PanelView{ID: "p", Quantity: "Response rate", Lower: 0, Upper: 1,
+		Curves: []Curve{{Label: "Expert A", Role: RoleExpert, Dist: sbeta(2, 8, 0, 1)}}}))
+	if !strings.Contains(html, "Density (upper plot) and chance below each value (lower plot) of Response rate") ||
+		strings.Contains(html, "cumulative") || !strings.Contains(html, ">chance below<") {
+		t.Errorf("the caption does not name the plots as their axes do:\n%s", html)
+	}
+}

@@ -91,7 +91,10 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
 	var b strings.Builder
-	fmt.Fprintf(&b, "Densities (upper plot) and cumulative probabilities (lower plot) of %s, between the bounds %s and %s. ",
+	// The plots' own axis titles, "density" and "chance below", not the
+	// statistician's "cumulative probability", which an expert reads here
+	// on their own page.
+	fmt.Fprintf(&b, "Density (upper plot) and chance below each value (lower plot) of %s, between the bounds %s and %s. ",
 		axisTitle(v.Quantity, v.Units), FormatValue(v.Lower), FormatValue(v.Upper))
 	b.WriteString(strings.Join(words, "; ") + ". ")
 	for _, n := range g.Notes {
