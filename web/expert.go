@@ -877,8 +877,13 @@ func (v expertQuestionView) panelIntro() string {
 	}
 	return "The other experts' fitted curves as they stood when round " + strconv.Itoa(v.FeedbackRound) +
 		" closed, without names: the letters follow an order that says nothing about who they are." + with +
-		" Everyone sees the same panel through this round." + v.feedbackUse()
+		poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
 }
+
+// poolMeaning says what the equal-weight pool is, in words for an expert
+// who is not a statistician: the linear opinion pool with equal weights,
+// whose density is the average of the experts' densities.
+const poolMeaning = " The pool is every expert's curve averaged, each counting the same."
 
 // spreadIntro is the sentence above the spread of a large panel.
 func (v expertQuestionView) spreadIntro() string {
@@ -887,7 +892,7 @@ func (v expertQuestionView) spreadIntro() string {
 		lead = "Your current fitted curve with the equal-weight pool of the whole panel"
 	}
 	return lead + " as round " + strconv.Itoa(v.FeedbackRound) + " closed, and below it one line per other expert at that close, without names, " +
-		"from their 5th to their 95th percentile with a dot at their median, sorted by median. Everyone sees the same panel through this round." + v.feedbackUse()
+		"from their 5th to their 95th percentile with a dot at their median, sorted by median." + poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
 }
 
 // feedbackUse says what the feedback is for: to reconsider an answer the

@@ -73,6 +73,12 @@ func TestSpreadWordsFollowTheExpertsOwnAnswer(t *testing.T) {
 		strings.Contains(got, "Your current") || !strings.Contains(got, notYetWords) {
 		t.Errorf("without an answer: %q", got)
 	}
+	// The pool is said in plain words on both pictures.
+	for _, got := range []string{mine.spreadIntro(), none.spreadIntro(), mine.panelIntro(), none.panelIntro()} {
+		if !strings.Contains(got, "The pool is every expert's curve averaged, each counting the same.") {
+			t.Errorf("the equal-weight pool is not explained: %q", got)
+		}
+	}
 	// After a reveal an expert who never answered cannot save any more.
 	none.Frozen = true
 	if got := none.spreadIntro(); strings.Contains(got, "Once you save") || !strings.Contains(got, "You gave no answer to this question before its true value was shown.") {
