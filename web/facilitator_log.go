@@ -49,7 +49,10 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Decision log", "log"), logPage(newLogView(ws, evs, qs, es, ps)))
+	m := facilitatorMeta(ws, "Decision log", "log")
+	// An agreement's entry writes the agreed Beta: the caution goes with it.
+	m.Caution = len(ps) > 0
+	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, evs, qs, es, ps)))
 }
 
 // newLogView writes each event as a row of the log, naming experts and
