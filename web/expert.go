@@ -748,6 +748,9 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 			p.ReadBacks = append(p.ReadBacks, line)
 		}
 	}
+	if line := intervalReading(q, fit, sp); line != "" {
+		p.ReadBacks = append(p.ReadBacks, line)
+	}
 	for i := range fit.Probs {
 		if i >= len(fit.Stated) {
 			break
@@ -768,6 +771,21 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 		p.Params, typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent)))
 	p.Warnings = expertWarnings(q, fit, sp)
 	return p
+}
+
+// intervalReading says how a four-value answer is read (elicit.FourValue):
+// the best estimate as the median and the chance left outside the range
+// split evenly between the two tails. The sentences below it say "you are
+// saying" of those tails, which the expert did not type.
+func intervalReading(q workshop.Question, fit elicit.Fit, sp speaker) string {
+	if q.Format != workshop.FormatInterval || len(fit.Probs) != 3 {
+		return ""
+	}
+	lo, hi := fit.Probs[0], fit.Probs[2]
+	return sp.pick("Parley reads your four values this way: your best estimate as the middle value, as likely to be exceeded as not, and the ",
+		"Parley reads %s's four values this way: the best estimate as the middle value, as likely to be exceeded as not, and the ") +
+		chart.FormatPercent(lo+(1-hi)) + " chance left outside " + sp.pick("your", "their") + " range as split evenly: " +
+		chart.FormatPercent(lo) + " below " + sp.pick("your", "their") + " lowest and " + chart.FormatPercent(1-hi) + " above " + sp.pick("your", "their") + " highest."
 }
 
 // formValues keeps the typed values for showing the form again.

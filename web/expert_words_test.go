@@ -164,6 +164,25 @@ func TestNoFitYetReadsAsOneSentence(t *testing.T) {
 	}
 }
 
+// The four-value form's read-backs say "you are saying there is a 1 in 10
+// chance below your lowest", which the expert did not type: the preview
+// first says how their values were read (the best estimate as the median,
+// the chance outside the range split evenly), so they can object.
+func TestIntervalPreviewSaysHowItWasRead(t *testing.T) {
+	g := newExpertRig(t)
+	f := url.Values{"lowest": {"0.08"}, "highest": {"0.35"}, "best": {"0.15"}, "confidence": {"80"}}
+	_, frag := g.post(g.qpath(0, g.qi)+"/preview?fragment=1", f)
+	want := "Parley reads your four values this way: your best estimate as the middle value, as likely to be exceeded as not, " +
+		"and the 20% chance left outside your range as split evenly: 10% below your lowest and 10% above your highest."
+	if !strings.Contains(frag, want) {
+		t.Errorf("the preview does not say how the four values were read:\n%s", frag)
+	}
+	// Quantile answers need no such sentence.
+	if _, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4")); strings.Contains(frag, "four values") {
+		t.Error("a quantile answer is read as four values")
+	}
+}
+
 // A link that leads nowhere says to ask the facilitator for a new one.
 func TestDeadLinkSaysWhatToDo(t *testing.T) {
 	g := newExpertRig(t)
