@@ -767,8 +767,11 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 		}
 		p.ReadBacks = append(p.ReadBacks, line)
 	}
-	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted %s puts the middle 90%% of the chance between %s and %s, with median %s.",
-		p.Params, typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent)))
+	// α and β are named with what they are, for an expert who is not a
+	// statistician; the picture's table and the history use them bare.
+	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted curve puts the middle 90%% of the chance between %s and %s, with median %s. "+
+		"It is %s, a Beta distribution: α and β are the two numbers that set its shape.",
+		typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent), p.Params))
 	p.Warnings = expertWarnings(q, fit, sp)
 	return p
 }

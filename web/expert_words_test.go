@@ -177,6 +177,10 @@ func TestIntervalPreviewSaysHowItWasRead(t *testing.T) {
 	if !strings.Contains(frag, want) {
 		t.Errorf("the preview does not say how the four values were read:\n%s", frag)
 	}
+	// α and β are said with what they are.
+	if !strings.Contains(frag, "It is Beta(α = ") || !strings.Contains(frag, "α and β are the two numbers that set its shape.") {
+		t.Errorf("the preview names α and β without saying what they are:\n%s", frag)
+	}
 	// Quantile answers need no such sentence.
 	if _, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4")); strings.Contains(frag, "four values") {
 		t.Error("a quantile answer is read as four values")
