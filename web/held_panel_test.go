@@ -171,3 +171,18 @@ func TestRoomHoldsBackTheCalibrationPanelUntilTheReveal(t *testing.T) {
 		t.Error("after the reveal the room still holds the answers back")
 	}
 }
+
+// The calibration page tells the facilitator what the experts can tell:
+// holding back a calibration question's panel in round 2 shows them which
+// questions are calibration questions, so the page no longer says they
+// are not told.
+func TestCalibrationPageSaysTheHeldPanelShowsTheSeeds(t *testing.T) {
+	p := newSeedPanel(t)
+	_, body := p.h.get(p.path())
+	if strings.Contains(body, "they are not told which") {
+		t.Error("the calibration page says experts are not told which questions are calibration questions")
+	}
+	if !strings.Contains(body, "from round 2 they can tell which they are") {
+		t.Error("the calibration page does not say that the held panel shows the calibration questions")
+	}
+}
