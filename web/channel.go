@@ -37,11 +37,22 @@ func channelForExpert(c workshop.Channel) string {
 	return ""
 }
 
+// channelRecorded is how a judgement reached the facilitator, as the
+// record says it after "entered by the facilitator" or "by you": the
+// choice's own label speaks as the facilitator choosing ("typed by me"),
+// which the report's reader would take for themselves.
+func channelRecorded(c workshop.Channel) string {
+	if c == workshop.ChannelInPerson {
+		return "as said in the session"
+	}
+	return channelLabel(c)
+}
+
 // provenance is a revision's who-and-how for the facilitator's tables:
 // "expert" or "facilitator, from a paper form".
 func provenance(rv workshop.Revision) string {
 	if rv.EnteredBy == workshop.ByFacilitator {
-		return "facilitator, " + channelLabel(rv.Channel)
+		return "facilitator, " + channelRecorded(rv.Channel)
 	}
 	return "expert"
 }

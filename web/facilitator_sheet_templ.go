@@ -227,9 +227,9 @@ func sheetPage(v sheetView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var11 string
-			templ_7745c5c3_Var11, templ_7745c5c3_Err = templ.JoinStringErrs(channelLabel(v.Channel))
+			templ_7745c5c3_Var11, templ_7745c5c3_Err = templ.JoinStringErrs(channelRecorded(v.Channel))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_sheet.templ`, Line: 46, Col: 216}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_sheet.templ`, Line: 46, Col: 219}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var11))
 			if templ_7745c5c3_Err != nil {
