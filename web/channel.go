@@ -43,7 +43,7 @@ func channelForExpert(c workshop.Channel) string {
 // which the report's reader would take for themselves.
 func channelRecorded(c workshop.Channel) string {
 	if c == workshop.ChannelInPerson {
-		return "as said in the session"
+		return "from what was said in the session"
 	}
 	return channelLabel(c)
 }

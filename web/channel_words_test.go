@@ -7,7 +7,7 @@ import (
 	"testing"
 )
 
-// A judgement the facilitator typed in the session is recorded as "as
+// A judgement the facilitator typed in the session is recorded as "from what was
 // said in the session": the report, read by the project lead, and the
 // question's history carry no "typed by me", which speaks as the
 // facilitator choosing the channel on the entry form.
@@ -23,7 +23,7 @@ func TestInSessionEntryIsRecordedWithoutMe(t *testing.T) {
 		if strings.Contains(page, "typed by me") {
 			t.Errorf("%s records the entry as 'typed by me'", p)
 		}
-		if !strings.Contains(page, "facilitator, as said in the session") {
+		if !strings.Contains(page, "facilitator, from what was said in the session") {
 			t.Errorf("%s does not record the entry as said in the session", p)
 		}
 	}
