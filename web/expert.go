@@ -39,6 +39,7 @@ type expertHomeView struct {
 	Decision  string
 	Round     int
 	Open      bool
+	Finished  bool // the workshop is archived: no next round
 	Questions []expertQuestionItem
 }
 
@@ -63,6 +64,7 @@ type expertQuestionView struct {
 	Title    string
 	Round    int
 	Open     bool
+	Finished bool // the workshop is archived: no next round
 	Question expertQuestionInfo
 	Form     answerForm
 	Preview  *previewView
@@ -407,7 +409,7 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	base := expertBase(r)
-	v := expertHomeView{Base: base, Expert: e.Name, Title: ws.Title, Purpose: ws.Purpose, Decision: ws.Decision, Round: ws.Round, Open: ws.Open}
+	v := expertHomeView{Base: base, Expert: e.Name, Title: ws.Title, Purpose: ws.Purpose, Decision: ws.Decision, Round: ws.Round, Open: ws.Open, Finished: ws.Archived}
 	for _, q := range qs {
 		if q.Retired {
 			continue
@@ -584,6 +586,9 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
+	if sc.workshop.Archived {
+		closed = "The facilitator has closed this workshop, so your answer was not saved and nothing more can be."
+	}
 	if !sc.workshop.Open {
 		again(http.StatusConflict, closed, "", &fit)
 		return
@@ -656,7 +661,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	base := expertBase(r)
 	v := expertQuestionView{
 		Base: base, Action: base + "/q/" + strconv.FormatInt(q.ID, 10),
-		Title: sc.workshop.Title, Round: sc.workshop.Round, Open: sc.workshop.Open,
+		Title: sc.workshop.Title, Round: sc.workshop.Round, Open: sc.workshop.Open, Finished: sc.workshop.Archived,
 		Question: expertQuestionInfo{
 			ID: q.ID, Position: q.Position, Wording: q.Wording, Quantity: q.Quantity, Units: q.Units,
 			Lower: chart.FormatValue(q.Lower), Upper: chart.FormatValue(q.Upper),

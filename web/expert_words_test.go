@@ -200,3 +200,28 @@ func TestDeadLinkSaysWhatToDo(t *testing.T) {
 		}
 	}
 }
+
+// Once the facilitator archives the workshop, an expert's pages do not
+// promise a next round: they say the workshop is finished, and a save
+// says nothing more can be saved.
+func TestArchivedWorkshopIsFinishedForTheExpert(t *testing.T) {
+	g := newExpertRig(t)
+	if r, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.02", "0.05", "0.12")); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d", r.StatusCode)
+	}
+	if err := g.db.SetArchived(context.Background(), g.ws.ID, true, "finished (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	finished := "The facilitator has closed this workshop after round 1. You can read your answers; nothing more can be saved."
+	for _, p := range []string{"/e/" + g.tokens[0] + "/", g.qpath(0, g.q)} {
+		_, page := g.get(p)
+		if !strings.Contains(page, finished) || strings.Contains(page, "will open the next round") {
+			t.Errorf("%s does not say the workshop is finished:\n%s", p, page)
+		}
+	}
+	r, page := g.post(g.qpath(0, g.q)+"/save", quantiles("0.03", "0.06", "0.12"))
+	if r.StatusCode != http.StatusConflict || !strings.Contains(page, "The facilitator has closed this workshop, so your answer was not saved") ||
+		strings.Contains(page, "will open the next round") {
+		t.Errorf("a save to the finished workshop: %d", r.StatusCode)
+	}
+}
