@@ -32,6 +32,11 @@ func TestFacilitatorEntersForAnExpert(t *testing.T) {
 		!strings.Contains(body, `data-preview="`+page+`/preview?fragment=1"`) {
 		t.Fatalf("entry page: %d", r.StatusCode)
 	}
+	// Before any values, the empty preview speaks of the expert's values,
+	// not the facilitator's.
+	if !strings.Contains(body, "Enter Priya Raman's values and choose <em>Show the fit</em>") || strings.Contains(body, "Enter your values") {
+		t.Error("the entry page's empty preview does not speak of the expert's values")
+	}
 	form := url.Values{"channel": {"paper_form"}, "values[0]": {"0.01"}, "values[1]": {"0.03"}, "values[2]": {"0.09"},
 		"reason": {"Field returns from the pilot site (invented)."}}
 	// The live preview is the expert's: read-backs and the fitted Beta.
