@@ -155,7 +155,7 @@ func newFitModel(v FitView) fitModel {
 			Chance:       FormatPercent(p.P),
 			Stated:       v.value(p.X),
 			Fitted:       v.value(fitted),
-			FittedChance: FormatPercent(chance),
+			FittedChance: fittedChance(chance),
 		})
 	}
 	for i, x := range v.Percentiles {
@@ -170,6 +170,16 @@ func newFitModel(v FitView) fitModel {
 	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
 	m.Desc = fitDescription(v, m, g)
 	return m
+}
+
+// fittedChance writes the fitted chance below a stated value for the
+// fit's table, which an expert reads: a chance under 0.001% is "under
+// 0.001%", not an exponent ("3e-5%").
+func fittedChance(p float64) string {
+	if p > 0 && p < 1e-5 {
+		return "under 0.001%"
+	}
+	return FormatPercent(p)
 }
 
 // fitPoints places the stated points on the cumulative plot of g.

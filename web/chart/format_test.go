@@ -3,6 +3,7 @@ package chart
 import (
 	"math"
 	"math/rand/v2"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -149,5 +150,23 @@ func TestFormatPercentStaysShortOfCertainty(t *testing.T) {
 	}
 	if strings.Contains(b.String(), "<td>100%</td>") || strings.Contains(b.String(), "fitted curve: 100%") {
 		t.Errorf("the fit's table writes a chance short of 1 as 100%%:\n%s", b.String())
+	}
+}
+
+// The fit's table never writes a chance with an exponent: a fitted curve
+// that leaves almost nothing below an expert's 5% value says "under
+// 0.001%" (Beta(40, 2) gives about 4e-20 below 0.3; by hand, I_0.3(40, 2)
+// ≈ 41·0.3⁴⁰).
+func TestFitTableSaysATinyChanceInWords(t *testing.T) {
+	v := FitView{ID: "tiny", Quantity: "share", Lower: 0, Upper: 1,
+		Dist:        elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 40, Beta: 2}, Lower: 0, Upper: 1},
+		Points:      []Point{{X: 0.3, P: 0.05}, {X: 0.95, P: 0.5}, {X: 0.99, P: 0.95}},
+		Percentiles: [3]float64{0.89, 0.96, 0.99}}
+	var b strings.Builder
+	if err := Fit(v).Render(t.Context(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), "<td>under 0.001%</td>") || regexp.MustCompile(`e-\d+%`).MatchString(b.String()) {
+		t.Errorf("the fit's table writes a tiny chance with an exponent:\n%s", b.String())
 	}
 }
