@@ -84,7 +84,7 @@ func TestFacilitatorPagesRender(t *testing.T) {
 		{workshopPath(ws.ID), []string{"Invented data.", "Questions", "Ines Varga", "Ole Brandt", "Who has answered what in round 1", "Close round 1", "Add an expert"}},
 		{workshopPath(ws.ID) + "/questions/new", []string{"Add a question", "Lower bound", "Chips in bins", "calibration question"}},
 		{workshopPath(ws.ID) + "/log", []string{"Decision log", "Workshop created", "Question added", "Expert added"}},
-		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", `<th scope="row">Linear pool</th>`, "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
+		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "(this page names the experts beside their answers; the room view does not)", `<th scope="row">Linear pool</th>`, "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
 		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.0413"}},
 	} {
 		res, body := h.get(tc.path)
