@@ -251,10 +251,16 @@ func readBack(p, x float64, units string, percent bool, sp speaker) string {
 
 // fittedBack says what the fitted Beta gives for the same statement.
 func fittedBack(p, fittedP float64) string {
-	if p <= 0.5 {
-		return "The fitted curve gives " + chance(fittedP) + " below it."
+	side, c := "below", fittedP
+	if p > 0.5 {
+		side, c = "above", 1-fittedP
 	}
-	return "The fitted curve gives " + chance(1-fittedP) + " above it."
+	if c == 1 {
+		// All of it, to double precision: "gives certainty below it"
+		// read badly.
+		return "The fitted curve puts all but a vanishing part of the chance " + side + " it."
+	}
+	return "The fitted curve gives " + chance(c) + " " + side + " it."
 }
 
 // newAnswerForm lays out the question's form with the typed values; its

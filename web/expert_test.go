@@ -622,6 +622,13 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 	if got, want := fittedBack(0.95, 0.99995), "The fitted curve gives less than a 1 in 1000 chance above it."; got != want {
 		t.Errorf("fitted far in the tail: %q, want %q", got, want)
 	}
+	// A fitted chance of exactly 1 (to double precision) is not "certainty".
+	if got, want := fittedBack(0.05, 1), "The fitted curve puts all but a vanishing part of the chance below it."; got != want {
+		t.Errorf("a fitted chance of 1: %q, want %q", got, want)
+	}
+	if got, want := fittedBack(0.95, 0), "The fitted curve puts all but a vanishing part of the chance above it."; got != want {
+		t.Errorf("a fitted chance of 1 above: %q, want %q", got, want)
+	}
 	// For an expert who typed percentages, the read-back speaks in them.
 	if got, want := readBack(0.05, 0.03, "proportion of mains", true, speaker{}), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
 		t.Errorf("in percentages: %q, want %q", got, want)
