@@ -10,6 +10,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
@@ -149,16 +150,21 @@ func axeSource(t *testing.T) string {
 	return string(b)
 }
 
+// axeTimeout bounds injecting and running axe-core, heavier than a
+// person's step: CI failed once at stepTimeout while other tests loaded
+// both cores.
+const axeTimeout = time.Minute
+
 // accessible runs axe-core on the page and fails on every serious or
 // critical violation.
 func accessible(t *testing.T, p *person, axe, where string) {
 	t.Helper()
 	if !eval[bool](p, "axe present", `typeof window.axe === "object"`) {
-		eval[bool](p, "inject axe", axe+";true")
+		evalWithin[bool](p, "inject axe", axe+";true", axeTimeout)
 	}
-	found := eval[[]string](p, "run axe", `axe.run(document, {resultTypes: ["violations"]}).then(r => r.violations
+	found := evalWithin[[]string](p, "run axe", `axe.run(document, {resultTypes: ["violations"]}).then(r => r.violations
 		.filter(v => v.impact === "serious" || v.impact === "critical")
-		.map(v => v.impact + " " + v.id + ": " + v.help + " — " + v.nodes.slice(0, 3).map(n => n.target.join(" ")).join(" | ")))`)
+		.map(v => v.impact + " " + v.id + ": " + v.help + " — " + v.nodes.slice(0, 3).map(n => n.target.join(" ")).join(" | ")))`, axeTimeout)
 	for _, f := range found {
 		t.Errorf("%s: %s", where, f)
 	}

@@ -217,7 +217,15 @@ func (p *person) open(url string) int64 {
 // eval evaluates a script expression in the page and decodes its value.
 func eval[T any](p *person, what, expr string) T {
 	p.t.Helper()
-	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	return evalWithin[T](p, what, expr, stepTimeout)
+}
+
+// evalWithin is eval with its own time limit, for a step that is heavy
+// by nature (axe-core's half-megabyte script and its run over a page),
+// which a loaded machine can slow past stepTimeout.
+func evalWithin[T any](p *person, what, expr string, limit time.Duration) T {
+	p.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, limit)
 	defer cancel()
 	v, err := chromedp.Run(ctx, chromedp.Evaluate[T](expr, chromedp.EvalAwaitPromise))
 	if err != nil {
