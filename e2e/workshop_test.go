@@ -161,6 +161,13 @@ func TestWorkshopInBrowser(t *testing.T) {
 	if n := ada.count(`button[formaction$="/save"]`); n != 0 {
 		t.Errorf("Ada can still press save in a closed round")
 	}
+	// The closed button does not look like the dark one that saves.
+	if bg := eval[string](ada, "the closed button's colour", `(() => {
+		const b = [...document.querySelectorAll("form.answer-form button.button[disabled]")].find(b => b.textContent.includes("Saving is closed"));
+		return b ? getComputedStyle(b).backgroundColor : "none";
+	})()`); !strings.HasPrefix(bg, "rgb(230, 227, 220") {
+		t.Errorf("the closed round's save button has background %q, want the pale disabled one", bg)
+	}
 	if st := fac.load("open round 2 without a reason", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`))); st != http.StatusUnprocessableEntity {
 		t.Errorf("opening a round without a reason: status %d, want 422", st)
 	}
