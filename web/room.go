@@ -3,6 +3,7 @@ package web
 import (
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -85,6 +86,11 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 	}
 	if q.Frozen() && q.TrueValue != nil {
 		v.Truth = chart.FormatValue(*q.TrueValue)
+		if u := strings.TrimSpace(q.Units); u != "" {
+			// The room reads the number with its units, as the experts
+			// gave theirs.
+			v.Truth += " (" + u + ")"
+		}
 	}
 	if err := s.fillRoom(r, ws, q, &v); err != nil {
 		s.fail(w, r, err)

@@ -124,8 +124,9 @@ func TestRoomViewShowsTheFeedbackAnonymously(t *testing.T) {
 		url.Values{"true_value": {"0.0413"}, "reveal": {"on"}, "reason": {"Shown (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatal("reveal")
 	}
-	if _, body := h.get(room(1)); !strings.Contains(body, "The true value is 0.0413") {
-		t.Error("the room does not show a revealed true value")
+	// With its units, as the experts gave their answers.
+	if _, body := h.get(room(1)); !strings.Contains(body, "The true value is 0.0413 ("+qs[1].Units+").") || qs[1].Units == "" {
+		t.Errorf("the room does not show the revealed true value 0.0413 with its units %q", qs[1].Units)
 	}
 }
 
