@@ -110,6 +110,16 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	if n := room.count(`form`); n != 0 {
 		t.Errorf("the room view carries %d forms", n)
 	}
+	// A line through the medians strip does not cut an expert's letter:
+	// each letter stands on a white halo drawn under it.
+	if halo := eval[string](room, "a letter's halo", `(() => {
+		const l = document.querySelector(".chart-medians .chart-wide .median-label");
+		if (!l) return "no letter";
+		const s = getComputedStyle(l);
+		return s.paintOrder + " " + s.stroke + " " + s.strokeWidth;
+	})()`); !strings.HasPrefix(halo, "stroke") || !strings.Contains(halo, "rgb(255, 255, 255)") {
+		t.Errorf("the medians strip's letters have no halo: %q", halo)
+	}
 	fitsScreen(t, room, 1920, 1080)
 	shots.take(room, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
