@@ -387,3 +387,25 @@ func (d ScaledBeta) Mode() (float64, bool) {
 	m, ok := d.Beta.Mode()
 	return d.Lower + d.width()*m, ok
 }
+
+// MaxDensity is the largest value of the density when it is bounded, both
+// shapes at least 1 (ok false otherwise, where it rises without limit at
+// a bound): at the mode, or where a shape of exactly 1 puts it, at a
+// bound: Beta(1, β) has f(0) = β and Beta(α, 1) has f(1) = α on the unit
+// scale (Johnson, Kotz & Balakrishnan 1995, "Continuous Univariate
+// Distributions", vol. 2, ch. 25), divided by the width here.
+func (d ScaledBeta) MaxDensity() (float64, bool) {
+	a, b, w := d.Alpha, d.Beta.Beta, d.width()
+	switch {
+	case !(a >= 1 && b >= 1):
+		return 0, false
+	case a > 1 && b > 1:
+		m, _ := d.Mode()
+		return d.PDF(m), true
+	case a == 1 && b == 1:
+		return 1 / w, true
+	case a == 1:
+		return b / w, true
+	}
+	return a / w, true
+}

@@ -228,3 +228,38 @@ func TestBetaValidate(t *testing.T) {
 		t.Errorf("valid scaled Beta rejected: %v", err)
 	}
 }
+
+// MaxDensity is the bounded density's top: the closed forms f(0) = β of
+// Beta(1, β), f(1) = α of Beta(α, 1) and 1 of the uniform (Johnson, Kotz
+// & Balakrishnan 1995, vol. 2, ch. 25), divided by the width; the density
+// at the mode (α − 1)/(α + β − 2) otherwise, which no other point exceeds;
+// none where a shape below 1 makes the density unbounded.
+func TestMaxDensity(t *testing.T) {
+	for _, c := range []struct {
+		d    ScaledBeta
+		want float64
+	}{
+		{Unit(Beta{1, 21}), 21},
+		{Unit(Beta{30, 1}), 30},
+		{Unit(Beta{1, 1}), 1},
+		{ScaledBeta{Beta{1, 30}, 0, 200}, 30.0 / 200},
+		{Unit(Beta{2, 2}), 1.5}, // 6x(1 − x) at 1/2
+	} {
+		got, ok := c.d.MaxDensity()
+		if !ok || math.Abs(got-c.want) > 1e-12*c.want {
+			t.Errorf("%v: MaxDensity %v, %v; want %v", c.d, got, ok, c.want)
+		}
+	}
+	d := Unit(Beta{1.000001, 70})
+	top, ok := d.MaxDensity()
+	for x := 1e-12; x < 1; x *= 1.5 {
+		if !ok || d.PDF(x) > top*(1+1e-12) {
+			t.Fatalf("%v: density %v at %v above its top %v", d, d.PDF(x), x, top)
+		}
+	}
+	for _, b := range []Beta{{0.5, 3}, {3, 0.9}, {0.5, 0.5}} {
+		if _, ok := Unit(b).MaxDensity(); ok {
+			t.Errorf("%v: unbounded density given a top", b)
+		}
+	}
+}

@@ -314,15 +314,7 @@ func TestPriorAgreedAfterTheDataIsFlagged(t *testing.T) {
 	if _, page := h.get(sp); strings.Contains(page, warn) {
 		t.Fatal("the warning shows for a prior agreed before the data")
 	}
-	ctx := context.Background()
-	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
-	p := ps[len(ps)-1]
-	p.ID, p.Rationale = 0, "Invented: agreed again after the site log came in."
-	p.Dist.Beta = elicit.Beta{Alpha: 7, Beta: 3}
-	p.Source, p.Construction, p.Consensus = workshop.PriorFromPool, nil, nil
-	if err := h.db.AgreePrior(ctx, &p); err != nil {
-		t.Fatal(err)
-	}
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 7, Beta: 3}, "Invented: agreed again after the site log came in.")
 	if _, page := h.get(sp); !strings.Contains(page, warn) {
 		t.Error("the study page does not flag a prior agreed after the data")
 	}
@@ -372,15 +364,7 @@ func TestStudyNotesAJShapedPosterior(t *testing.T) {
 	if _, page := h.get(sp); strings.Contains(html.UnescapeString(page), "J-shaped (α") {
 		t.Fatal("the note shows for the demo's posterior, whose mode is inside (0, 1)")
 	}
-	ctx := context.Background()
-	ps, _ := h.db.AgreedPriors(ctx, ws.ID)
-	p := ps[len(ps)-1]
-	p.ID, p.Rationale = 0, "Invented: a prior with its density highest at 0."
-	p.Dist.Beta = elicit.Beta{Alpha: 0.5, Beta: 10}
-	p.Source, p.Construction, p.Consensus = workshop.PriorFromPool, nil, nil
-	if err := h.db.AgreePrior(ctx, &p); err != nil {
-		t.Fatal(err)
-	}
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 0.5, Beta: 10}, "Invented: a prior with its density highest at 0.")
 	_, page := h.get(sp)
 	if !strings.Contains(html.UnescapeString(page), note) {
 		t.Errorf("the study page of posterior Beta(0.5, 30) lacks the note %q", note)
@@ -411,5 +395,23 @@ func TestAgreeingAPriorTheDataCannotUpdate(t *testing.T) {
 	}
 	if after, _ := h.db.AgreedPriors(ctx, ws.ID); len(after) != len(before) {
 		t.Errorf("%d priors after the refusal, want %d", len(after), len(before))
+	}
+}
+
+// agreeAgain agrees the workshop's last agreed prior again, from the pool,
+// as the Beta b: a study page's tests' way to put a prior of a given shape
+// on a question that already has data.
+func agreeAgain(t *testing.T, h *harness, wsID int64, b elicit.Beta, rationale string) {
+	t.Helper()
+	ctx := context.Background()
+	ps, err := h.db.AgreedPriors(ctx, wsID)
+	if err != nil || len(ps) == 0 {
+		t.Fatalf("agreed priors: %d, %v", len(ps), err)
+	}
+	p := ps[len(ps)-1]
+	p.ID, p.Rationale, p.Dist.Beta = 0, rationale, b
+	p.Source, p.Construction, p.Consensus = workshop.PriorFromPool, nil, nil
+	if err := h.db.AgreePrior(ctx, &p); err != nil {
+		t.Fatal(err)
 	}
 }

@@ -163,8 +163,12 @@ func (c Curve) computeSpan(lower, upper float64) curveSpan {
 		ys[k] = pdf(x)
 	}
 	s.top, _ = densityCap(ys)
+	// A bounded density (both shapes at least 1) falls from its top
+	// without a spike, however steeply (the posterior Beta(1, n + 1) of a
+	// uniform prior after n trials without a success): its top is its
+	// largest value, never cut as a spike.
 	if b, ok := c.beta(); ok {
-		if top, ok := boundedTop(b); ok && isFinite(top) {
+		if top, ok := b.MaxDensity(); ok && isFinite(top) {
 			s.top = top
 		}
 	}

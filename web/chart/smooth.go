@@ -153,28 +153,6 @@ func smoothTop(b elicit.ScaledBeta) float64 {
 	return b.PDF(m)
 }
 
-// boundedTop is the largest value of a Beta's density when it is bounded,
-// both shapes at least 1 (ok false otherwise): at its mode, or where a
-// shape of exactly 1 puts it, at a bound: Beta(1, β) has f(0) = β and
-// Beta(α, 1) has f(1) = α (Johnson, Kotz & Balakrishnan 1995, ch. 25),
-// on the unit scale. Such a density falls from its top without a spike,
-// however steeply (the posterior Beta(1, n + 1) of a uniform prior and n
-// trials without a success), so it is never cut as one.
-func boundedTop(b elicit.ScaledBeta) (float64, bool) {
-	a, bb, w := b.Alpha, b.Beta.Beta, b.Upper-b.Lower
-	switch {
-	case !(a >= 1 && bb >= 1):
-		return 0, false
-	case a > 1 && bb > 1:
-		return smoothTop(b), true
-	case a == 1 && bb == 1:
-		return 1 / w, true
-	case a == 1:
-		return bb / w, true
-	}
-	return a / w, true
-}
-
 // smoothSpan is a smooth Beta's span on [lower, upper]. Its percentiles
 // are solved for from starting points: known ones (a fit's, which then
 // cost one evaluation each to confirm) or the median's close
