@@ -221,7 +221,7 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	typeValues(carmen, "3", "7", "16")
 	carmen.waitFor("the read-back in percentages", `document.getElementById("preview").innerText.includes("Read as 0.03 (3%), 0.07 (7%) and 0.16 (16%).")`)
 	saveAnswer(t, carmen)
-	carmen.sees("saved in percentages", "5%: 3%; 50%: 7%; 95%: 16%", "Next: Question 2")
+	carmen.sees("saved in percentages", "5% chance below 3%; 50% below 7%; 95% below 16%", "Next: Question 2")
 	// The confidence as a fraction is refused with help; as a percentage it is taken.
 	carmen.open(qURL(1))
 	for _, f := range [][2]string{{"lowest", "0.08"}, {"highest", "0.35"}, {"best", "0.15"}, {"confidence", "0.8"}} {

@@ -707,7 +707,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 
 func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
-		Values: answerSummary(q, rv.Answer), Alpha: "—", Beta: "—"}
+		Values: answerInWords(q, rv.Answer), Alpha: "—", Beta: "—"}
 	if rv.EnteredBy == workshop.ByFacilitator {
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
@@ -715,6 +715,36 @@ func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) histor
 		h.Alpha, h.Beta = chart.FormatShape(fit.Dist.Alpha), chart.FormatShape(fit.Dist.Beta.Beta)
 	}
 	return h
+}
+
+// answerInWords writes a saved answer on one line for the expert's own
+// history, in words: "5% chance below 3%; 50% below 7%; 95% below 16%"
+// rather than answerSummary's "5%: 3%; …", which is ambiguous when the
+// values are percentages too.
+func answerInWords(q workshop.Question, a workshop.Answer) string {
+	switch q.Format {
+	case workshop.FormatInterval:
+		return "between " + typedBack(a.Lowest, a.Percent) + " and " + typedBack(a.Highest, a.Percent) + ", " +
+			chart.FormatPercent(a.Confidence) + " sure; best estimate " + typedBack(a.Best, a.Percent)
+	case workshop.FormatChips:
+		var parts []string
+		for _, c := range a.Counts {
+			parts = append(parts, strconv.Itoa(c))
+		}
+		return "chips in each bin, lowest first: " + strings.Join(parts, ", ")
+	}
+	var parts []string
+	for i, x := range a.Values {
+		p := "?"
+		if i < len(q.Probs) {
+			p = chart.FormatPercent(q.Probs[i])
+		}
+		if i == 0 {
+			p += " chance"
+		}
+		parts = append(parts, p+" below "+typedBack(x, a.Percent))
+	}
+	return strings.Join(parts, "; ")
 }
 
 // answerSummary writes a saved answer on one line.
@@ -858,11 +888,15 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	}
 	q := sc.question
 	var own *elicit.ScaledBeta
+	// The panel writes values as the expert's own fit does: as
+	// percentages when their last answer was typed in them.
+	percent := false
 	if n := len(sc.own); n > 0 {
 		if fit, err := s.fits.fit(q, sc.own[n-1]); err == nil {
 			d := fit.Dist
 			own = &d
 		}
+		percent = sc.own[n-1].Answer.Percent && isProportion(q) && q.Format != workshop.FormatChips
 	}
 	var others []feedbackMember
 	for _, m := range fb.members {
@@ -888,7 +922,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		for i, m := range others {
 			dists[i] = m.dist
 		}
-		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists, Percent: percent}
 		return
 	}
 	for _, m := range others {
@@ -897,7 +931,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
 	}
-	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
+	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Percent: percent}
 }
 
 // panelIntro is the sentence above the overlaid panel. It speaks of the

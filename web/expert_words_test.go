@@ -7,6 +7,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // A proportion question takes percentages: 5% always, a plain 5 when the
@@ -33,7 +35,7 @@ func TestExpertTypesPercentages(t *testing.T) {
 	}
 	_, page := g.get(g.qpath(0, g.q))
 	if !strings.Contains(page, `value="5"`) || !strings.Contains(page, `id="f-unit-percent" name="unit" value="percent" checked`) ||
-		!strings.Contains(page, "5%: 2%; 50%: 5%; 95%: 12%") {
+		!strings.Contains(page, "5% chance below 2%; 50% below 5%; 95% below 12%") {
 		t.Error("the page does not show the saved answer as the expert typed it")
 	}
 	// A plain 5 under the proportion choice is refused with the likely meaning.
@@ -223,5 +225,77 @@ func TestArchivedWorkshopIsFinishedForTheExpert(t *testing.T) {
 	if r.StatusCode != http.StatusConflict || !strings.Contains(page, "The facilitator has closed this workshop, so your answer was not saved") ||
 		strings.Contains(page, "will open the next round") {
 		t.Errorf("a save to the finished workshop: %d", r.StatusCode)
+	}
+}
+
+// An expert who types percentages reads the round-2 panel in
+// percentages, as their own fit speaks: its x axis, the percentiles of
+// each curve and the note under it; an expert who types proportions reads
+// proportions there.
+func TestPanelSpeaksInTheExpertsUnit(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	answers := [][]string{{"3%", "7%", "16%"}, {"0.02", "0.08", "0.2"}, {"0.1", "0.3", "0.5"}}
+	for i, a := range answers {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		t.Fatal(err)
+	}
+	panelOf := func(i int) string {
+		_, page := g.get(g.qpath(i, g.q))
+		start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")
+		if start < 0 || end < start {
+			t.Fatalf("expert %d: no panel before the history", i)
+		}
+		return page[start:end]
+	}
+	// The "You" row's median: the percentiles are in the expert's unit.
+	youMedian := regexp.MustCompile(`(?s)<th scope="row">You.*?</td>\s*<td>[^<]*</td>\s*<td>([^<]*)</td>`)
+	ada := panelOf(0)
+	m := youMedian.FindStringSubmatch(ada)
+	if m == nil || !strings.HasSuffix(m[1], "%") {
+		t.Errorf("Ada typed percentages, but her panel's own median reads %v", m)
+	}
+	if !strings.Contains(wideOnly(ada), `data-value="0.1">10%</text>`) {
+		t.Error("Ada's panel's x axis is not in percentages")
+	}
+	if !strings.Contains(ada, "between the bounds 0% and 100%") {
+		t.Error("Ada's panel's caption does not give the bounds in percentages")
+	}
+	bruno := panelOf(1)
+	if m := youMedian.FindStringSubmatch(bruno); m == nil || strings.HasSuffix(m[1], "%") {
+		t.Errorf("Bruno typed proportions, but his panel's own median reads %v", m)
+	}
+	if !strings.Contains(bruno, "between the bounds 0 and 1") {
+		t.Error("Bruno's panel's caption does not give the bounds as proportions")
+	}
+}
+
+// The expert's history writes each saved answer in words, so that a value
+// typed in percentages is not read against its probability ("5%: 3%").
+func TestHistoryInWords(t *testing.T) {
+	quant := workshop.Question{Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	interval := workshop.Question{Lower: 0, Upper: 1, Format: workshop.FormatInterval}
+	chips := workshop.Question{Lower: 0, Upper: 1, Format: workshop.FormatChips, BinEdges: []float64{0, 0.1, 0.2, 1}, Chips: 10}
+	cases := []struct {
+		q    workshop.Question
+		a    workshop.Answer
+		want string
+	}{
+		{quant, workshop.Answer{Values: []float64{0.03, 0.07, 0.16}, Percent: true}, "5% chance below 3%; 50% below 7%; 95% below 16%"},
+		{quant, workshop.Answer{Values: []float64{0.03, 0.07, 0.16}}, "5% chance below 0.03; 50% below 0.07; 95% below 0.16"},
+		{interval, workshop.Answer{Lowest: 0.08, Highest: 0.35, Best: 0.15, Confidence: 0.8, Percent: true}, "between 8% and 35%, 80% sure; best estimate 15%"},
+		{chips, workshop.Answer{Counts: []int{2, 7, 1}}, "chips in each bin, lowest first: 2, 7, 1"},
+	}
+	for _, c := range cases {
+		if got := answerInWords(c.q, c.a); got != c.want {
+			t.Errorf("%s: got %q, want %q", c.q.Format, got, c.want)
+		}
 	}
 }

@@ -17,6 +17,19 @@ type PanelView struct {
 	Lower    float64
 	Upper    float64
 	Curves   []Curve
+	// Percent writes the quantity's values (the x axis, the notes under
+	// it, the percentiles and the caption) as percentages: for an expert
+	// who types their judgement of a proportion in percentages, so that
+	// the panel speaks as their own fit does.
+	Percent bool
+}
+
+// value writes a value of the quantity as the view's reader typed it.
+func (v PanelView) value(x float64) string {
+	if v.Percent {
+		return FormatPercent(x)
+	}
+	return FormatValue(x)
 }
 
 type legendGeom struct {
@@ -74,11 +87,11 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	for i, lay := range layouts {
-		d := panelDrawing{ID: m.ID, Twin: newTwin(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false)}
+		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}
-		d.Legend = panelLegend(&d.Twin, curves)
+		d.Legend = panelLegend(&d.Twin, curves, v.value)
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
@@ -95,7 +108,7 @@ func newPanelModel(v PanelView) panelModel {
 	// statistician's "cumulative probability", which an expert reads here
 	// on their own page.
 	fmt.Fprintf(&b, "Density (upper plot) and chance below each value (lower plot) of %s, between the bounds %s and %s. ",
-		axisTitle(v.Quantity, v.Units), FormatValue(v.Lower), FormatValue(v.Upper))
+		axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
 	b.WriteString(strings.Join(words, "; ") + ". ")
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")
@@ -106,8 +119,9 @@ func newPanelModel(v PanelView) panelModel {
 
 // panelLegend lays the legend out under g's plots, in the layout's
 // columns, and makes room for it: the picture keeps the plots' width and
-// its text stays legible when a phone shrinks it.
-func panelLegend(g *twinGeom, curves []Curve) []legendGeom {
+// its text stays legible when a phone shrinks it. value writes the
+// curves' percentiles.
+func panelLegend(g *twinGeom, curves []Curve, value func(float64) string) []legendGeom {
 	lay := g.Layout
 	top := g.Height + 4
 	cols := lay.LegendCols
@@ -123,7 +137,7 @@ func panelLegend(g *twinGeom, curves []Curve) []legendGeom {
 			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
 		}
 		p := g.percentiles[i]
-		lg.P5, lg.P50, lg.P95 = FormatValue(p[0]), FormatValue(p[1]), FormatValue(p[2])
+		lg.P5, lg.P50, lg.P95 = value(p[0]), value(p[1]), value(p[2])
 		if b, ok := c.beta(); ok {
 			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatShape(b.Alpha), FormatShape(b.Beta.Beta))
 		}

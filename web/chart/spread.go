@@ -26,6 +26,9 @@ type SpreadView struct {
 	// facilitator's panel and the report), not the others of the expert
 	// who is looking; it changes only the words.
 	WholePanel bool
+	// Percent writes the quantity's values as percentages (PanelView's
+	// Percent).
+	Percent bool
 }
 
 // spreadQuartile is one row of the table of the other experts' medians.
@@ -79,7 +82,7 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if m.ID == "" {
 		m.ID = "spread"
 	}
-	m.Panel = newPanelModel(PanelView{ID: m.ID + "-curves", Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves})
+	m.Panel = newPanelModel(PanelView{ID: m.ID + "-curves", Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent})
 	type interval struct{ p5, p50, p95 float64 }
 	var iv []interval
 	for _, d := range v.Others {
@@ -122,12 +125,13 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if err != nil {
 		return m
 	}
+	value := PanelView{Percent: v.Percent}.value
 	m.Quartiles = []spreadQuartile{
-		{"lowest", FormatValue(ms.Lowest)},
-		{"lower quartile", FormatValue(ms.LowerQuartile)},
-		{"median", FormatValue(ms.Median)},
-		{"upper quartile", FormatValue(ms.UpperQuartile)},
-		{"highest", FormatValue(ms.Highest)},
+		{"lowest", value(ms.Lowest)},
+		{"lower quartile", value(ms.LowerQuartile)},
+		{"median", value(ms.Median)},
+		{"upper quartile", value(ms.UpperQuartile)},
+		{"highest", value(ms.Highest)},
 	}
 	what, other, line := "experts'", "other ", "One line per other expert"
 	if len(iv) == 1 {

@@ -116,3 +116,33 @@ func TestSpreadInvalidOthersDrawNoNaN(t *testing.T) {
 	v.Others, v.Curves = nil, nil
 	checkFinite(t, render(t, Spread(v)))
 }
+
+// A spread for an expert who types percentages writes the other experts'
+// medians, the curves' percentiles and the x axis in percentages; the
+// same spread in proportions writes none.
+func TestSpreadInPercentages(t *testing.T) {
+	v, _ := spreadInputs(40)
+	m := newSpreadModel(v)
+	for _, q := range m.Quartiles {
+		if strings.HasSuffix(q.Value, "%") {
+			t.Errorf("proportions: the %s median reads %q", q.Name, q.Value)
+		}
+	}
+	v.Percent = true
+	m = newSpreadModel(v)
+	for _, q := range m.Quartiles {
+		if !strings.HasSuffix(q.Value, "%") {
+			t.Errorf("percentages: the %s median reads %q", q.Name, q.Value)
+		}
+	}
+	for _, l := range m.Panel.Legend {
+		if !strings.HasSuffix(l.P50, "%") {
+			t.Errorf("percentages: %s's median reads %q", l.Label, l.P50)
+		}
+	}
+	for _, tk := range m.Strips[0].XTicks {
+		if !strings.HasSuffix(tk.Label, "%") {
+			t.Errorf("percentages: x tick %q", tk.Label)
+		}
+	}
+}
