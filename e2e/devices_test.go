@@ -108,6 +108,22 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 		t.Errorf("%s at %d px: the history's cells run past the screen: %q", where, width, cut)
 	}
+	// Each value's label stands apart from the box above it, so that an
+	// expert does not read it as that box's.
+	if close := eval[[]string](p, "the answer form's spacing", `(() => {
+		const out = [];
+		const fields = Array.from(document.querySelectorAll(".answer-form > fieldset > .field, .answer-form > fieldset > .unit-choice")).filter(f => f.getClientRects().length);
+		for (let i = 1; i < fields.length; i++) {
+			const above = Array.from(fields[i-1].querySelectorAll("input, select")).pop();
+			const label = fields[i].querySelector("label, legend");
+			if (!above || !label) continue;
+			const gap = label.getBoundingClientRect().top - above.getBoundingClientRect().bottom;
+			if (gap < 9) out.push(label.textContent.trim() + " (" + gap.toFixed(1) + " px)");
+		}
+		return out;
+	})()`); len(close) > 0 {
+		t.Errorf("%s at %d px: a label sits against the box above it: %q", where, width, close)
+	}
 	problems := eval[[]string](p, "pictures' boxes", `(() => {
 		const out = [];
 		for (const svg of document.querySelectorAll("svg.chart-svg")) {

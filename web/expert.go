@@ -233,7 +233,10 @@ func upperFirst(s string) string {
 func readBack(p, x float64, units string, percent bool, sp speaker) string {
 	v := chart.FormatValue(x)
 	if u := strings.TrimSpace(units); u != "" {
-		v += " " + u
+		// In brackets, as the form's labels and the picture's axis write
+		// them: units that name the quantity ("proportion of mains") do
+		// not read as a number's suffix.
+		v += " (" + u + ")"
 	}
 	if percent {
 		// The expert typed percentages: speak in them.

@@ -222,9 +222,9 @@ func TestExpertPreviewShowsTheFitAndSavesNothing(t *testing.T) {
 		t.Errorf("preview draws %d stated points, want 3", n)
 	}
 	for _, want := range []string{
-		"1 in 20 chance the value is below 0.05 proportion",
-		"as likely to be below 0.2 proportion as above it",
-		"1 in 20 chance the value is above 0.4 proportion",
+		"1 in 20 chance the value is below 0.05 (proportion).",
+		"as likely to be below 0.2 (proportion) as above it",
+		"1 in 20 chance the value is above 0.4 (proportion).",
 		"Beta(α =", "<svg", "median",
 	} {
 		if !strings.Contains(body, want) {
@@ -608,11 +608,11 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		p, x float64
 		want string
 	}{
-		{0.05, 0.012, "You are saying there is a 1 in 20 chance the value is below 0.012 per demand."},
-		{0.95, 0.3, "You are saying there is a 1 in 20 chance the value is above 0.3 per demand."},
-		{0.5, 0.1, "You are saying the value is as likely to be below 0.1 per demand as above it."},
+		{0.05, 0.012, "You are saying there is a 1 in 20 chance the value is below 0.012 (per demand)."},
+		{0.95, 0.3, "You are saying there is a 1 in 20 chance the value is above 0.3 (per demand)."},
+		{0.5, 0.1, "You are saying the value is as likely to be below 0.1 (per demand) as above it."},
 		// A four-value interval held 99.95% sure leaves 1 in 4000 in each tail.
-		{0.00025, 0.01, "You are saying there is less than a 1 in 1000 chance the value is below 0.01 per demand."},
+		{0.00025, 0.01, "You are saying there is less than a 1 in 1000 chance the value is below 0.01 (per demand)."},
 	} {
 		if got := readBack(c.p, c.x, "per demand", false, speaker{}); got != c.want {
 			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
