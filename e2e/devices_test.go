@@ -103,10 +103,11 @@ func fits(t *testing.T, p *person, where string, width int64) {
 		wide := eval[[]string](p, "what is too wide", fmt.Sprintf(`Array.from(document.querySelectorAll("body *")).filter(e => e.getBoundingClientRect().right > %d + 0.5 && !e.closest(".table, .chart-table, .table-scroll, .map-scroll, .chart")).slice(-4).map(e => e.tagName + "." + e.className + " " + Math.round(e.getBoundingClientRect().right))`, width))
 		t.Errorf("%s at %d px: the page scrolls sideways (%d px wide): %v", where, width, sw, wide)
 	}
-	// An expert's own history is a block of labelled lines on a phone:
-	// no cell reaches past the screen's edge.
-	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
-		t.Errorf("%s at %d px: the history's cells run past the screen: %q", where, width, cut)
+	// An expert's own history, and each expert's final judgement in the
+	// report, are blocks of labelled lines on a phone: no cell reaches past
+	// the screen's edge.
+	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td, .table-fits td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
+		t.Errorf("%s at %d px: a table's cells run past the screen: %q", where, width, cut)
 	}
 	// Each value's label stands apart from the box above it, so that an
 	// expert does not read it as that box's.
