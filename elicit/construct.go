@@ -213,9 +213,9 @@ func (c Construction) Describe() string {
 	case MethodMeanSD:
 		return fmt.Sprintf("mean %g and standard deviation %g%s by the method of moments", in.Mean, in.SD, scale)
 	case MethodIntervalMoments:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %.4g%%", percentOf(in.Coverage), in.Low, in.High, scale, 100*c.CoverageAchieved)
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %s%%", percentOf(in.Coverage), in.Low, in.High, scale, PercentText(c.CoverageAchieved, 4))
 	case MethodIntervalQuantiles:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %.4g%%", percentOf(in.Coverage), in.Low, in.High, scale, 100*c.CoverageAchieved)
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %s%%", percentOf(in.Coverage), in.Low, in.High, scale, PercentText(c.CoverageAchieved, 4))
 	}
 	return string(in.Method)
 }
@@ -248,6 +248,18 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})
 	}
 	return w
+}
+
+// PercentText writes a computed probability p as a percentage to figures
+// significant figures, or as many more as it takes to stay short of 100%
+// when p is short of 1 (ShapeDigits): a moment match that holds
+// 0.99998657 of the prior is "99.999", not "100", which reads as all of
+// it; a share of 0.99996 is "99.996", not "100". Without the % sign.
+func PercentText(p float64, figures int) string {
+	if p < 1 {
+		figures = ShapeDigits(p, figures)
+	}
+	return strconv.FormatFloat(100*p, 'g', figures, 64)
 }
 
 // percentOf writes a probability as a percentage to 12 significant

@@ -285,3 +285,16 @@ func TestPlanTextSmallDataShare(t *testing.T) {
 		t.Errorf("text output lacks %q:\n%s", want, out)
 	}
 }
+
+// The data's share of the posterior mean short of 1 is not written as
+// 100%: 10⁶ trials under Beta(2, 38) get 10⁶/(10⁶ + 40) = 99.996% of it
+// (conjugate update, worked by hand), the prior the other 0.004%.
+func TestPlanTextLargeDataShare(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "2", "--beta", "38", "--trials", "1000000")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if want := "a study of 1000000 trials gets 99.996% of the weight in the posterior mean"; !strings.Contains(out, want) {
+		t.Errorf("text output lacks %q:\n%s", want, out)
+	}
+}

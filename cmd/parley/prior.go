@@ -252,15 +252,15 @@ func writePriorText(w io.Writer, o priorOutput) error {
 	fmt.Fprintf(&b, "made from: %s\n", o.Description)
 	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Q05, o.Q50, o.Q95)
 	if o.CoverageAchieved != nil {
-		fmt.Fprintf(&b, "the interval [%g, %g] holds %.4g%% of this prior (asked %s%%): %.4g%% below it, %.4g%% above it\n",
-			o.Input.Low, o.Input.High, 100**o.CoverageAchieved, input.Typed(o.Input.Coverage, true), 100**o.BelowLow, 100**o.AboveHigh)
+		fmt.Fprintf(&b, "the interval [%g, %g] holds %s%% of this prior (asked %s%%): %.4g%% below it, %.4g%% above it\n",
+			o.Input.Low, o.Input.High, elicit.PercentText(*o.CoverageAchieved, 4), input.Typed(o.Input.Coverage, true), 100**o.BelowLow, 100**o.AboveHigh)
 	}
 	if alt := o.Alternative; alt != nil {
 		name := "exact quantile match"
 		if alt.Method == string(elicit.MethodIntervalMoments) {
 			name = "moment match"
 		}
-		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%s, %s), which holds %.4g%% of its probability there\n", name, shape(alt.Alpha), shape(alt.Beta), 100*alt.CoverageAchieved)
+		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%s, %s), which holds %s%% of its probability there\n", name, shape(alt.Alpha), shape(alt.Beta), elicit.PercentText(alt.CoverageAchieved, 4))
 	}
 	// The JSON's worth keeps the numbers; the words follow the bounds.
 	fmt.Fprintf(&b, "%s\n", elicit.WorthOf(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: o.Alpha, Beta: o.Beta}, Lower: o.Lower, Upper: o.Upper}))

@@ -238,3 +238,23 @@ func TestPriorWorthWordsFollowTheBounds(t *testing.T) {
 		t.Errorf("days: exit %d %s\n%s", code, errOut, out)
 	}
 }
+
+// A coverage short of 1 is not written as 100%: the moment match of
+// [0.2, 0.4] at 99.999% is Beta(122.62, 286.12), which R's pbeta says
+// holds 1 − 8.72e-7 − 1.256e-5 = 99.99866% of it
+// (testdata/r/interval_match_reference.csv, "moments" row); four
+// figures wrote "holds 100% of this prior (asked 99.999%)".
+func TestPriorTextCoverageShortOfAll(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "prior", "--interval", "0.2,0.4", "--coverage", "0.99999", "--method", "moments")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"it holds 99.999%\n", "holds 99.999% of this prior (asked 99.999%)", "which holds 99.999% of its probability there"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+	if strings.Contains(out, "100%") {
+		t.Errorf("a coverage short of 1 written as 100%%:\n%s", out)
+	}
+}
