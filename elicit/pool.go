@@ -691,19 +691,29 @@ func (p Pool) BestBeta() (Representation, error) {
 	return r, nil
 }
 
+// Far reports which of the representation's checks the Beta fails: its
+// CDF strays from the pool's by more than PoorFitThreshold, its standard
+// deviation or its central 90% interval's width is off the pool's by more
+// than the factor SpreadRatioLimit either way. Warnings says the same in
+// sentences.
+func (r Representation) Far() (cdf, sd, interval bool) {
+	far := func(x float64) bool { return !(x <= SpreadRatioLimit && x >= 1/SpreadRatioLimit) }
+	return r.MaxCDFError > PoorFitThreshold, far(r.SDRatio), far(r.IntervalRatio)
+}
+
 // representationWarnings flags the Beta by the CDF distance
 // (PoorFitThreshold, the rule an expert's fit is judged by) and by the
 // spread ratios (SpreadRatioLimit).
 func (r Representation) representationWarnings() []string {
 	w := []string{}
-	if r.MaxCDFError > PoorFitThreshold {
+	cdf, sd, interval := r.Far()
+	if cdf {
 		w = append(w, fmt.Sprintf("The single Beta is far from the pool: their CDFs differ by up to %.3g (more than %.2g). Report the pool itself or agree a consensus judgement.", r.MaxCDFError, PoorFitThreshold))
 	}
-	far := func(x float64) bool { return !(x <= SpreadRatioLimit && x >= 1/SpreadRatioLimit) }
-	if far(r.SDRatio) {
+	if sd {
 		w = append(w, fmt.Sprintf("The single Beta's standard deviation is %.3g times the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.SDRatio, 1/SpreadRatioLimit, SpreadRatioLimit))
 	}
-	if far(r.IntervalRatio) {
+	if interval {
 		w = append(w, fmt.Sprintf("The single Beta's central 90%% interval is %.3g times as wide as the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.IntervalRatio, 1/SpreadRatioLimit, SpreadRatioLimit))
 	}
 	return w

@@ -65,12 +65,16 @@ type studyView struct {
 	Planned    *sensitivityBlock // posteriors at the planned study's typical outcome
 	Observed   *sensitivityBlock // posteriors for the recorded data
 	Skipped    []string          // priors left out of the comparison, and why
+	Caveats    []string          // pools whose single Beta stands in for them only roughly
 }
 
 // priorChoice is one prior the study can be planned under.
 type priorChoice struct {
 	Value, Label string
 	Prior        elicit.Beta
+	// Caveat says that a pool's single Beta stands in for the pool only
+	// roughly (workshop.StandInCaveat); "" otherwise.
+	Caveat string
 }
 
 // planView is the planning section: its form and what it computed.
@@ -181,11 +185,14 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 			v.UpdatePic = updatePicture(q, u)
 		}
 	}
-	priors, skipped := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Weights: d.Weights, Fit: d.fit},
+	priors, skipped, caveats := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Weights: d.Weights, Fit: d.fit},
 		performanceWeights(d), v.Agreed)
 	v.Skipped = skipped
 	for i, p := range priors {
-		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, Prior: p.Prior})
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, Prior: p.Prior, Caveat: caveats[i]})
+		if caveats[i] != "" {
+			v.Caveats = append(v.Caveats, caveats[i])
+		}
 	}
 	if len(priors) == 0 {
 		return v

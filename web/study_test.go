@@ -415,3 +415,40 @@ func agreeAgain(t *testing.T, h *harness, wsID int64, b elicit.Beta, rationale s
 		t.Fatal(err)
 	}
 }
+
+// The demo's equal-weight pool of Q1 (a sharp expert among vaguer ones)
+// has a single Beta far from the pool: its CDF strays from the pool's by
+// 0.127 and its standard deviation is 0.79 times the pool's
+// (elicit.Pool.BestBeta's warnings). The study page plans under that
+// Beta and shows its posterior as the "Equal-weight pool" row, so it
+// says, beside the comparison and above a plan under it, that the Beta
+// stands in for the pool only roughly. It showed the row without a word.
+func TestStudySaysWhereAPoolsBetaStandsInOnlyRoughly(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, body := h.get(sp)
+	page := html.UnescapeString(body)
+	const caveat = "Equal-weight pool: its single Beta stands in for the pool only roughly"
+	compare := page[strings.Index(page, `id="compare"`):]
+	if !strings.Contains(compare, caveat) || !strings.Contains(compare, "0.127") {
+		t.Errorf("the comparison lacks the caveat %q", caveat)
+	}
+	choice := page[:strings.Index(page, ">Equal-weight pool: Beta(")]
+	choice = choice[strings.LastIndex(choice, `value="`)+7:]
+	choice = choice[:strings.Index(choice, `"`)]
+	_, body = h.get(sp + "?prior=" + choice + "&trials=100")
+	plan := html.UnescapeString(body)
+	plan = plan[strings.Index(plan, "Under Equal-weight pool"):]
+	plan = plan[:strings.Index(plan, "What the study may see")]
+	if !strings.Contains(plan, caveat) {
+		t.Errorf("the plan under the equal-weight pool lacks the caveat:\n%s", plan)
+	}
+	// The agreed prior, the plan's default, is no stand-in.
+	_, body = h.get(sp + "?trials=100")
+	plan = html.UnescapeString(body)
+	plan = plan[strings.Index(plan, "<h3>Under "):]
+	plan = plan[:strings.Index(plan, "What the study may see")]
+	if strings.Contains(plan, "only roughly") {
+		t.Errorf("the plan under the agreed prior has a caveat:\n%s", plan)
+	}
+}

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -98,13 +99,18 @@ func (q Question) IsProportion() bool {
 // in.Weights are the weights in force: custom weights in force add the
 // pool under them; performance weights that are not in force (perf is
 // what the calibration page would offer) are named as suggested.
-func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors []elicit.NamedPrior, skipped []string) {
+//
+// caveats runs beside priors: for a pool whose single Beta is far from
+// the pool (elicit.Representation.Far), words saying that the Beta stands
+// in for the pool only roughly (StandInCaveat); "" for every other prior.
+func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors []elicit.NamedPrior, skipped, caveats []string) {
 	inForce := in.Weights
 	in.Weights = Weights{WorkshopID: in.Question.WorkshopID, Scheme: WeightsEqual}
 	equal := PanelState(in)
 	for _, m := range equal.Members {
 		if m.Pooled && m.Fit != nil {
 			priors = append(priors, elicit.NamedPrior{Name: m.Expert.Name, Prior: m.Fit.Dist.Beta})
+			caveats = append(caveats, "")
 		}
 	}
 	pool := func(name string, p Panel) {
@@ -115,6 +121,7 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 			skipped = append(skipped, fmt.Sprintf("%s: no single Beta: %v", name, p.SingleErr))
 		default:
 			priors = append(priors, elicit.NamedPrior{Name: name, Prior: p.Single.Dist.Beta})
+			caveats = append(caveats, StandInCaveat(name, *p.Single))
 		}
 	}
 	pool("Equal-weight pool", equal)
@@ -132,8 +139,33 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 	}
 	if agreed != nil {
 		priors = append(priors, elicit.NamedPrior{Name: "Agreed prior", Prior: agreed.Dist.Beta})
+		caveats = append(caveats, "")
 	}
-	return priors, skipped
+	return priors, skipped, caveats
+}
+
+// StandInCaveat says, for the pool called name, that its single Beta r
+// stands in for it only roughly, with the distances that fail
+// elicit.Representation's checks; "" when none does. Updating or planning
+// under a pool updates or plans under that Beta, so where the Beta misses
+// the pool's spread the posterior and the plan miss it too.
+func StandInCaveat(name string, r elicit.Representation) string {
+	cdf, sd, interval := r.Far()
+	var how []string
+	if cdf {
+		how = append(how, fmt.Sprintf("their CDFs differ by up to %.3g", r.MaxCDFError))
+	}
+	if sd {
+		how = append(how, fmt.Sprintf("its standard deviation is %.3g times the pool's", r.SDRatio))
+	}
+	if interval {
+		how = append(how, fmt.Sprintf("its central 90%% interval is %.3g times as wide as the pool's", r.IntervalRatio))
+	}
+	if len(how) == 0 {
+		return ""
+	}
+	return name + ": its single Beta stands in for the pool only roughly (" + strings.Join(how, "; ") +
+		"), so the posterior and any plan under it are that Beta's, not the pool's."
 }
 
 // UpdateLevel is the credible level of the intervals an update reports.

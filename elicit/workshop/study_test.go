@@ -2,6 +2,7 @@ package workshop
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -19,7 +20,7 @@ func TestComparedPriors(t *testing.T) {
 	perf := Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 0.9, 2: 0.1}}
 	agreed := AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 3, Beta: 12})}
 	in.Weights = perf // in force
-	got, skipped := ComparedPriors(in, &perf, &agreed)
+	got, skipped, _ := ComparedPriors(in, &perf, &agreed)
 	in.Weights = Weights{Scheme: WeightsEqual}
 	equal := PanelState(in)
 	in.Weights = perf
@@ -46,7 +47,7 @@ func TestComparedPriors(t *testing.T) {
 	// Without performance weights or an agreed prior, those rows go.
 	plain := panelCase()
 	plain.Weights = Weights{Scheme: WeightsEqual}
-	got, _ = ComparedPriors(plain, nil, nil)
+	got, _, _ = ComparedPriors(plain, nil, nil)
 	if len(got) != 3 || got[2].Name != "Equal-weight pool" {
 		t.Errorf("without them: %+v", got)
 	}
@@ -54,7 +55,7 @@ func TestComparedPriors(t *testing.T) {
 	// force are named as suggested (found in review).
 	custom := panelCase()
 	custom.Weights = Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 0.2, 2: 0.8}}
-	got, _ = ComparedPriors(custom, &perf, nil)
+	got, _, _ = ComparedPriors(custom, &perf, nil)
 	byCustom := PanelState(custom)
 	names := map[string]elicit.Beta{}
 	for _, p := range got {
@@ -65,6 +66,65 @@ func TestComparedPriors(t *testing.T) {
 	}
 	if _, ok := names["Performance-weight pool (suggested)"]; !ok {
 		t.Errorf("performance weights not in force are not named as suggested: %+v", got)
+	}
+}
+
+// A pool enters the comparison by its single Beta (elicit.Pool.BestBeta);
+// where that Beta is far from the pool (its Representation warns) the
+// comparison says so beside the pool, in the Representation's numbers:
+// the rows and a plan under it are that Beta's, not the pool's. Two
+// experts far apart (invented: near 2% and near 60%) make a two-humped
+// equal-weight pool that no single Beta follows; a pool whose Beta
+// carries no warning gets no caveat.
+func TestComparedPriorsSayWhereAPoolsBetaIsFarFromIt(t *testing.T) {
+	in := panelCase()
+	in.Weights = Weights{Scheme: WeightsEqual}
+	in.Revisions = []Revision{
+		{ID: 10, QuestionID: 1, ExpertID: 1, Round: 1, Answer: Answer{Values: []float64{0.01, 0.02, 0.04}}},
+		{ID: 11, QuestionID: 1, ExpertID: 2, Round: 1, Answer: Answer{Values: []float64{0.4, 0.6, 0.8}}},
+	}
+	priors, _, caveats := ComparedPriors(in, nil, nil)
+	if len(caveats) != len(priors) {
+		t.Fatalf("%d caveats for %d priors", len(caveats), len(priors))
+	}
+	single := PanelState(in).Single
+	if single == nil || len(single.Warnings) == 0 {
+		t.Fatalf("the two-humped pool's single Beta carries no warning: %+v", single)
+	}
+	for i, p := range priors {
+		switch {
+		case p.Name == "Equal-weight pool":
+			c := caveats[i]
+			for _, want := range []string{"Equal-weight pool", "only roughly", fmt.Sprintf("%.3g", single.MaxCDFError), "not the pool's"} {
+				if !strings.Contains(c, want) {
+					t.Errorf("caveat %q lacks %q", c, want)
+				}
+			}
+		case caveats[i] != "":
+			t.Errorf("%s: caveat %q", p.Name, caveats[i])
+		}
+	}
+	// The panel of TestComparedPriors: each pool's caveat is there
+	// exactly when its single Beta warns.
+	in = panelCase()
+	perf := Weights{Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 0.9, 2: 0.1}}
+	in.Weights = perf
+	priors, _, caveats = ComparedPriors(in, &perf, nil)
+	in.Weights = Weights{Scheme: WeightsEqual}
+	equal := PanelState(in).Single
+	in.Weights = perf
+	byPerf := PanelState(in).Single
+	for i, p := range priors {
+		var rep *elicit.Representation
+		switch p.Name {
+		case "Equal-weight pool":
+			rep = equal
+		case "Performance-weight pool":
+			rep = byPerf
+		}
+		if want := rep != nil && len(rep.Warnings) > 0; (caveats[i] != "") != want {
+			t.Errorf("%s: caveat %q, single Beta's warnings %v", p.Name, caveats[i], rep)
+		}
 	}
 }
 
