@@ -305,12 +305,33 @@ func TestHDIShapes(t *testing.T) {
 			t.Errorf("%s: [%v, %v], want [%v, %v]", tc.name, lo, hi, tc.lo, tc.hi)
 		}
 	}
-	// U-shaped Beta(0.4, 0.8): the shorter of the two intervals against a
-	// bound; more mass sits near 0 here, so it is [0, Q(level)].
-	d := Beta{0.4, 0.8}
-	lo, hi, _ := HDI(d, level)
-	if lo != 0 || hi != d.Quantile(level) || hi > 1-d.Quantile(1-level) {
-		t.Errorf("U-shaped %v: [%v, %v]", d, lo, hi)
+}
+
+// TestHDIEdgeShapesScipy: for a U-shaped Beta the shortest single
+// interval with the probability lies against a bound, and for a J-shaped
+// one it starts at the bound where the density is highest: against
+// SciPy 1.10.1's brute force over the lower tail mass, both ends
+// included (testdata/scipy, kind hdi_edge_*). The U-shaped case was
+// checked only against HDI's own quantiles.
+func TestHDIEdgeShapesScipy(t *testing.T) {
+	los, his := readScipy(t, "hdi_edge_lo"), readScipy(t, "hdi_edge_hi")
+	if len(los) != len(his) {
+		t.Fatalf("%d lower and %d upper ends", len(los), len(his))
+	}
+	for i, r := range los {
+		d := Beta{r.alpha, r.beta}
+		lo, hi, err := HDI(d, r.x)
+		if err != nil {
+			t.Fatal(err)
+		}
+		wantLo, wantHi := r.value, his[i].value
+		if !relClose(hi-lo, wantHi-wantLo, 1e-9) {
+			t.Errorf("%v level %v: [%.17g, %.17g], width %.12g; SciPy [%.17g, %.17g], width %.12g", d, r.x, lo, hi, hi-lo, wantLo, wantHi, wantHi-wantLo)
+		}
+		// A symmetric U has two shortest intervals, one at each bound.
+		if r.alpha != r.beta && (math.Abs(lo-wantLo) > 1e-9 || math.Abs(hi-wantHi) > 1e-9) {
+			t.Errorf("%v level %v: [%.17g, %.17g], SciPy [%.17g, %.17g]", d, r.x, lo, hi, wantLo, wantHi)
+		}
 	}
 }
 

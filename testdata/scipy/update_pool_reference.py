@@ -24,6 +24,14 @@ Columns: kind,alpha,beta,n,x,value,components
                   log lo = log f(hi)/(alpha - 1) with log(1 - lo) = 0;
                   value is exp of that, 0.0 where it underflows (the
                   correctly rounded float64), and mirrored for beta
+  hdi_edge_lo, hdi_edge_hi
+                  the shortest single interval of mass x = level for a Beta
+                  whose density is not unimodal inside (0, 1): U-shaped
+                  (alpha, beta < 1) or J-shaped (one of them at most 1). By
+                  brute force: the width ppf(t + level) - ppf(t) at 20001
+                  tail masses t from 0 to 1 - level, both ends included,
+                  and the interval of the smallest width; against a bound
+                  that is [0, ppf(level)] or [ppf(1 - level), 1] exactly
   pool_q          linear-pool quantile at probability x of the mixture in
                   `components` ("alpha:beta:weight|..." with raw weights),
                   by scipy.optimize.brentq on the mixture CDF, xtol 1e-15
@@ -86,6 +94,18 @@ for a, b, level in [(1.01, 50.0, 0.95), (1.001, 50.0, 0.95), (1.000001, 50.0, 0.
     # The mirror image, Beta(b, a): its upper end is 1 - lo, 1.0 in float64.
     row("hdi_far_lo", b, a, 0, level, 1 - hi)
     row("hdi_far_hi", b, a, 0, level, 1 - lo)
+
+# Shortest single intervals of U- and J-shaped Betas, by brute force.
+for a, b in [(0.4, 0.8), (0.5, 0.5), (0.9, 0.3), (0.2, 0.9), (0.99, 0.98), (0.5, 1.0), (0.3, 12.0), (3.0, 0.7)]:
+    d = stats.beta(a, b)
+    for level in [0.5, 0.9, 0.95]:
+        t = np.linspace(0, 1 - level, 20001)
+        t[-1] = 1 - level
+        lo, hi = d.ppf(t), d.ppf(t + level)
+        hi[-1] = 1.0
+        k = int(np.argmin(hi - lo))
+        row("hdi_edge_lo", a, b, 0, level, lo[k])
+        row("hdi_edge_hi", a, b, 0, level, hi[k])
 
 # Linear pool quantiles.
 pools = [
