@@ -369,6 +369,11 @@ func TestStudyNotesAJShapedPosterior(t *testing.T) {
 	if !strings.Contains(html.UnescapeString(page), note) {
 		t.Errorf("the study page of posterior Beta(0.5, 30) lacks the note %q", note)
 	}
+	// The report gives the same interval, 0 to Q(0.95), with the same
+	// note; it gave the interval alone.
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(html.UnescapeString(report), note) {
+		t.Errorf("the report of posterior Beta(0.5, 30) lacks the note %q", note)
+	}
 }
 
 // Agreeing, from the question's page, a prior that the question's
