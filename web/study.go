@@ -430,7 +430,7 @@ func predictiveRows(pmf []float64) []predictiveRow {
 	for x, p := range pmf {
 		cum += p
 		if p >= 1e-4 {
-			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatValue(min(cum, 1))})
+			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatProbability(min(cum, 1))})
 		}
 	}
 	if len(rows) > 60 {

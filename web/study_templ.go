@@ -888,9 +888,9 @@ func studyUpdate(v studyView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var45 string
-			templ_7745c5c3_Var45, templ_7745c5c3_Err = templ.JoinStringErrs(fv(u.Conflict.Lower))
+			templ_7745c5c3_Var45, templ_7745c5c3_Err = templ.JoinStringErrs(chart.FormatProbability(u.Conflict.Lower))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/study.templ`, Line: 228, Col: 147}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/study.templ`, Line: 228, Col: 168}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var45))
 			if templ_7745c5c3_Err != nil {
@@ -914,9 +914,9 @@ func studyUpdate(v studyView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var47 string
-			templ_7745c5c3_Var47, templ_7745c5c3_Err = templ.JoinStringErrs(fv(u.Conflict.Upper))
+			templ_7745c5c3_Var47, templ_7745c5c3_Err = templ.JoinStringErrs(chart.FormatProbability(u.Conflict.Upper))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/study.templ`, Line: 229, Col: 71}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/study.templ`, Line: 229, Col: 92}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var47))
 			if templ_7745c5c3_Err != nil {

@@ -457,3 +457,67 @@ func TestStudySaysWhereAPoolsBetaStandsInOnlyRoughly(t *testing.T) {
 		t.Errorf("the plan under the agreed prior has a caveat:\n%s", plan)
 	}
 }
+
+// The predictive table's "at most" column is P(X ≤ x), against SciPy
+// 1.10.1's betabinom.cdf (testdata/scipy/update_pool_reference.csv,
+// betabinom_cdf rows of Beta(2, 400) and 10 trials), to the figures it
+// shows, and a probability short of 1 is not shown as 1: P(X ≤ 2) =
+// 0.99996 was "1", as if 3 or more successes could not happen (they
+// have probability 4e-5).
+func TestPredictiveTableStaysShortOfOne(t *testing.T) {
+	f, err := os.Open("../testdata/scipy/update_pool_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	want := map[string]float64{}
+	sc := bufio.NewScanner(f)
+	for sc.Scan() {
+		if rest, ok := strings.CutPrefix(sc.Text(), "betabinom_cdf,2.0,400.0,10,"); ok {
+			c := strings.Split(rest, ",")
+			v, err := strconv.ParseFloat(c[1], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want[c[0]] = v
+		}
+	}
+	if len(want) != 11 {
+		t.Fatalf("%d reference rows", len(want))
+	}
+	pmf, err := elicit.PriorPredictive(elicit.Beta{Alpha: 2, Beta: 400}, 10)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := predictiveRows(pmf)
+	if len(rows) != 3 {
+		t.Fatalf("rows %+v", rows)
+	}
+	for _, r := range rows {
+		got, err := strconv.ParseFloat(r.Cum, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		w := want[r.X]
+		if w < 1 && got >= 1 || math.Abs(got-w) > 5e-5*w {
+			t.Errorf("P(X ≤ %s) shown %q, SciPy %.8g", r.X, r.Cum, w)
+		}
+	}
+}
+
+// The conflict check's tails are written short of 1 when they are: 33
+// successes in 120 trials under the demo's agreed prior
+// Beta(2.9505, 55.560) have P(Y ≤ 33) = 0.99997277 by SciPy 1.10.1's
+// betabinom.cdf (computed for this test), which the page wrote as "1".
+func TestStudyConflictTailStaysShortOfOne(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"33"}, "trials": {"120"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(sp)
+	if want := "the chance of 33 or fewer successes in 120 trials was 0.99997,"; !strings.Contains(html.UnescapeString(page), want) {
+		i := strings.Index(page, "the chance of 33")
+		t.Errorf("the page lacks %q: %s", want, page[i:i+120])
+	}
+}

@@ -55,7 +55,7 @@ print("kind,alpha,beta,n,x,value,components")
 
 # Beta-binomial prior predictive.
 for a, b, n in [(1.0, 1.0, 10), (2.0, 8.0, 20), (0.5, 0.5, 15), (3.4, 61.2, 50),
-                (0.2, 30.0, 200), (40.0, 12.0, 1000), (2.0, 38.0, 50)]:
+                (0.2, 30.0, 200), (40.0, 12.0, 1000), (2.0, 38.0, 50), (2.0, 400.0, 10)]:
     d = stats.betabinom(n, a, b)
     ks = range(n + 1) if n <= 50 else sorted({0, 1, 2, n // 10, n // 2, n - 1, n})
     for k in ks:

@@ -23,6 +23,15 @@ func FormatShape(v float64) string {
 	return formatSig(v, elicit.ShapeDigits(v, 4))
 }
 
+// FormatProbability writes a probability as FormatValue does, with as
+// many more figures as it takes to stay short of 1 when it is short of 1
+// (elicit.ShapeDigits, the rule FormatShape applies on either side of 1):
+// a cumulative probability of 0.99996 is "0.99996", not "1", which reads
+// as certainty.
+func FormatProbability(p float64) string {
+	return formatSig(p, elicit.ShapeDigits(p, 4))
+}
+
 // formatSig writes v rounded to sig significant figures (1 ≤ sig ≤ 17)
 // as the shortest decimal of the rounded value: fixed notation from 1e-4
 // up to 1e7, exponent notation (without "+" or leading zeros) outside.
