@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"strconv"
 
 	"gonum.org/v1/gonum/mathext"
 )
@@ -306,9 +307,13 @@ func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 	return c, nil
 }
 
-// String is a one-line summary, e.g. for the command line.
+// String is a one-line summary, e.g. for the command line. Each
+// probability has four significant figures, or as many more as keep one
+// short of 1 from reading 1 (ShapeDigits): P(Y ≤ s) = 0.99996 is not
+// "1", which would say that more successes could not happen.
 func (c Conflict) String() string {
-	return fmt.Sprintf("P(Y ≤ %d) = %.4g, P(Y ≥ %d) = %.4g, two-sided %.4g", c.Successes, c.Lower, c.Successes, c.Upper, c.TwoSided)
+	p := func(v float64) string { return strconv.FormatFloat(v, 'g', ShapeDigits(v, 4), 64) }
+	return fmt.Sprintf("P(Y ≤ %d) = %s, P(Y ≥ %d) = %s, two-sided %s", c.Successes, p(c.Lower), c.Successes, p(c.Upper), p(c.TwoSided))
 }
 
 // Updated is a Beta prior updated with binomial data: the posterior

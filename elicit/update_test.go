@@ -5,6 +5,7 @@ import (
 	"errors"
 	"math"
 	"os"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -446,5 +447,34 @@ func TestHDINoteFollowsHDIsCases(t *testing.T) {
 		case strings.Contains(got, "starts at 0") && lo != 0, strings.Contains(got, "ends at 1") && hi != 1:
 			t.Errorf("HDI(%v) = [%g, %g], but the note says %q", c.d, lo, hi, got)
 		}
+	}
+}
+
+// Conflict.String, what parley update prints, writes a tail short of 1
+// short of 1: for Beta(2, 400) and 2 successes in 10 trials P(Y ≤ 2) is
+// 0.99995875 by SciPy 1.10.1's betabinom.cdf (testdata/scipy,
+// betabinom_cdf), which four figures wrote "P(Y ≤ 2) = 1".
+func TestConflictStringStaysShortOfOne(t *testing.T) {
+	var want float64
+	for _, r := range readScipy(t, "betabinom_cdf") {
+		if r.alpha == 2 && r.beta == 400 && r.n == 10 && r.x == 2 {
+			want = r.value
+		}
+	}
+	if !(want > 0.9999 && want < 1) {
+		t.Fatalf("reference P(Y ≤ 2) = %v", want)
+	}
+	c, err := ConflictCheck(Beta{2, 400}, 2, 10)
+	if err != nil {
+		t.Fatal(err)
+	}
+	s := c.String()
+	m := regexp.MustCompile(`^P\(Y ≤ 2\) = ([0-9.e+-]+),`).FindStringSubmatch(s)
+	if m == nil {
+		t.Fatalf("String() = %q", s)
+	}
+	got, _ := strconv.ParseFloat(m[1], 64)
+	if got >= 1 || math.Abs(got-want) > 5e-6 {
+		t.Errorf("String() = %q, SciPy P(Y ≤ 2) = %.8g", s, want)
 	}
 }
