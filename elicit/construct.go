@@ -250,18 +250,6 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 	return w
 }
 
-// PercentText writes a computed probability p as a percentage to figures
-// significant figures, or as many more as it takes to stay short of 100%
-// when p is short of 1 (ShapeDigits): a moment match that holds
-// 0.99998657 of the prior is "99.999", not "100", which reads as all of
-// it; a share of 0.99996 is "99.996", not "100". Without the % sign.
-func PercentText(p float64, figures int) string {
-	if p < 1 {
-		figures = ShapeDigits(p, figures)
-	}
-	return strconv.FormatFloat(100*p, 'g', figures, 64)
-}
-
 // percentOf writes a probability as a percentage to 12 significant
 // figures: 0.99999 is "99.999", not 100·0.99999 = 99.99900000000001, and
 // the largest coverage taken (1 − 2e-12) is still told from 100.

@@ -36,3 +36,24 @@ func ShapeDigits(x float64, min int) int {
 	}
 	return 17
 }
+
+// ProbabilityText writes a computed probability p to figures significant
+// figures, or as many more as it takes to stay short of 1 when p is short
+// of 1 (ShapeDigits): an assurance of 0.9999872 is "0.99999", not "1",
+// which would say the study cannot fail.
+func ProbabilityText(p float64, figures int) string {
+	if p < 1 {
+		figures = ShapeDigits(p, figures)
+	}
+	return strconv.FormatFloat(p, 'g', figures, 64)
+}
+
+// PercentText is ProbabilityText as a percentage, without the % sign: a
+// moment match that holds 0.99998657 of the prior is "99.999", not
+// "100", which reads as all of it; a share of 0.99996 is "99.996".
+func PercentText(p float64, figures int) string {
+	if p < 1 {
+		figures = ShapeDigits(p, figures)
+	}
+	return strconv.FormatFloat(100*p, 'g', figures, 64)
+}

@@ -3,7 +3,6 @@ package elicit
 import (
 	"fmt"
 	"math"
-	"strconv"
 
 	"gonum.org/v1/gonum/mathext"
 )
@@ -309,11 +308,11 @@ func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 
 // String is a one-line summary, e.g. for the command line. Each
 // probability has four significant figures, or as many more as keep one
-// short of 1 from reading 1 (ShapeDigits): P(Y ≤ s) = 0.99996 is not
+// short of 1 from reading 1 (ProbabilityText): P(Y ≤ s) = 0.99996 is not
 // "1", which would say that more successes could not happen.
 func (c Conflict) String() string {
-	p := func(v float64) string { return strconv.FormatFloat(v, 'g', ShapeDigits(v, 4), 64) }
-	return fmt.Sprintf("P(Y ≤ %d) = %s, P(Y ≥ %d) = %s, two-sided %s", c.Successes, p(c.Lower), c.Successes, p(c.Upper), p(c.TwoSided))
+	return fmt.Sprintf("P(Y ≤ %d) = %s, P(Y ≥ %d) = %s, two-sided %s",
+		c.Successes, ProbabilityText(c.Lower, 4), c.Successes, ProbabilityText(c.Upper, 4), ProbabilityText(c.TwoSided, 4))
 }
 
 // Updated is a Beta prior updated with binomial data: the posterior

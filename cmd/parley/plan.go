@@ -333,7 +333,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 		if s.Direction == string(elicit.DirectionAbove) {
 			sign = ">"
 		}
-		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %s: %.4g\n", sign, s.Threshold, s.Confidence, countOf(o.Trials, "trial", "trials"), *o.Assurance)
+		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %s: %s\n", sign, s.Threshold, s.Confidence, countOf(o.Trials, "trial", "trials"), elicit.ProbabilityText(*o.Assurance, 4))
 		switch {
 		case s.SuccessesFrom > s.SuccessesTo:
 			fmt.Fprintf(&b, "  no outcome of %s meets the criterion\n", countOf(o.Trials, "trial", "trials"))
@@ -348,7 +348,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 		step := max(1, len(o.AssuranceCurve)/8)
 		for i := step - 1; i < len(o.AssuranceCurve); i += step {
 			c := o.AssuranceCurve[i]
-			fmt.Fprintf(&b, " %d: %.3g;", c.Trials, c.Assurance)
+			fmt.Fprintf(&b, " %d: %s;", c.Trials, elicit.ProbabilityText(c.Assurance, 3))
 		}
 		b.WriteString("\n")
 	}

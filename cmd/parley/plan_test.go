@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"math"
 	"os"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -296,5 +297,32 @@ func TestPlanTextLargeDataShare(t *testing.T) {
 	}
 	if want := "a study of 1000000 trials gets 99.996% of the weight in the posterior mean"; !strings.Contains(out, want) {
 		t.Errorf("text output lacks %q:\n%s", want, out)
+	}
+}
+
+// An assurance short of 1 is not printed as 1: under Beta(1, 199), 100
+// trials meet P(θ < 0.05 | data) ≥ 0.9 with probability 0.9999872 by
+// SciPy's sum over every outcome (testdata/scipy/plan_reference.csv),
+// which four figures printed as "1", as if the study could not fail.
+func TestPlanTextAssuranceShortOfOne(t *testing.T) {
+	want, _ := planReference(t, "assurance", "1.0", "199.0", "100", "0.05:below:0.9")
+	if !(want > 0.9999 && want < 1) {
+		t.Fatalf("reference assurance %v", want)
+	}
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "1", "--beta", "199", "--trials", "100",
+		"--threshold", "0.05", "--direction", "below", "--confidence", "0.9")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	m := regexp.MustCompile(`≥ 0\.9 after 100 trials: ([0-9.e+-]+)\n`).FindStringSubmatch(out)
+	if m == nil {
+		t.Fatalf("no assurance in:\n%s", out)
+	}
+	got, _ := strconv.ParseFloat(m[1], 64)
+	if got >= 1 || math.Abs(got-want) > 5e-6 {
+		t.Errorf("assurance printed %s, SciPy %.8g", m[1], want)
+	}
+	if strings.Contains(out, ": 1;") {
+		t.Errorf("an assurance curve point short of 1 printed as 1:\n%s", out)
 	}
 }

@@ -204,6 +204,7 @@ for A, B, n, T, direction, G in [
     (3.0, 7.0, 1000, 0.25, "above", 0.8),
     (0.5, 0.5, 20, 0.3, "below", 0.5),
     (2.0, 38.0, 10, 0.01, "below", 0.99),
+    (1.0, 199.0, 100, 0.05, "below", 0.9),
 ]:
     v, span = assurance(A, B, n, T, direction, G)
     row("assurance", A, B, n, f"{T!r}:{direction}:{G!r}", v, span)
