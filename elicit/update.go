@@ -285,7 +285,11 @@ type Conflict struct {
 // two-sided value doubles the smaller one, capped at 1 (common practice
 // for discrete tail probabilities; Box's own measure orders outcomes by
 // predictive density instead). Each tail is summed from its own end, so a
-// small tail keeps its relative precision.
+// small tail keeps its relative precision; a tail above one half is 1
+// minus the sum beyond the observed count on the other side, so that
+// P(Y ≥ 0) and P(Y ≤ n) are 1 exactly, not the sum of all n + 1
+// probabilities, each of which carries the rounding of its log-gamma
+// terms (0.9999999996 for 10⁶ trials).
 func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 	if err := checkData(prior, successes, trials); err != nil {
 		return Conflict{}, err
@@ -295,11 +299,20 @@ func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 		return Conflict{}, err
 	}
 	c := Conflict{Successes: successes, Trials: trials}
-	for k := 0; k <= successes; k++ {
-		c.Lower += pmf[k]
+	var below, above neumaierSum // P(Y < s) and P(Y > s)
+	for k := 0; k < successes; k++ {
+		below.add(pmf[k])
 	}
-	for k := trials; k >= successes; k-- {
-		c.Upper += pmf[k]
+	for k := trials; k > successes; k-- {
+		above.add(pmf[k])
+	}
+	c.Lower = below.sum() + pmf[successes]
+	c.Upper = above.sum() + pmf[successes]
+	if c.Lower > 0.5 {
+		c.Lower = 1 - above.sum()
+	}
+	if c.Upper > 0.5 {
+		c.Upper = 1 - below.sum()
 	}
 	c.Lower, c.Upper = math.Min(c.Lower, 1), math.Min(c.Upper, 1)
 	c.TwoSided = math.Min(1, 2*math.Min(c.Lower, c.Upper))

@@ -478,3 +478,35 @@ func TestConflictStringStaysShortOfOne(t *testing.T) {
 		t.Errorf("String() = %q, SciPy P(Y ≤ 2) = %.8g", s, want)
 	}
 }
+
+// The larger tail of the conflict check is 1 minus the smaller one beyond
+// the observed count, so a tail that is certain by definition is 1:
+// P(Y ≥ 0) = P(Y ≤ n) = 1 for every prior. Summing all n + 1
+// beta-binomial probabilities, each carrying the rounding of log-gamma
+// terms near 1.3e7, gave P(Y ≥ 0) = 0.9999999996 for Beta(2, 38) and 10⁶
+// trials, which parley update now prints to the figures that keep it
+// short of 1. For Beta(3e6, 2), P(Y ≤ 989) in 1000 trials is 6.4e-38
+// (SciPy 1.10.1's betabinom.cdf, computed for this test), so
+// P(Y ≥ 990) is 1 in float64; the sum gave 0.99999999.
+func TestConflictCertainTailIsOne(t *testing.T) {
+	for _, c := range []struct {
+		prior  Beta
+		s, n   int
+		lo, up bool // which tail must be exactly 1
+	}{
+		{Beta{2, 38}, 0, 1_000_000, false, true},
+		{Beta{2, 38}, 1_000_000, 1_000_000, true, false},
+		{Beta{1e7, 1e7}, 0, 1_000_000, false, true},
+		{Beta{1e7, 1e7}, 1_000_000, 1_000_000, true, false},
+		{Beta{3e6, 2}, 990, 1000, false, true},
+		{Beta{0.5, 0.5}, 0, 0, true, true},
+	} {
+		got, err := ConflictCheck(c.prior, c.s, c.n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if c.lo && got.Lower != 1 || c.up && got.Upper != 1 {
+			t.Errorf("%v, %d of %d: P(Y ≤ s) = %.17g, P(Y ≥ s) = %.17g", c.prior, c.s, c.n, got.Lower, got.Upper)
+		}
+	}
+}
