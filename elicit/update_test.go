@@ -510,3 +510,21 @@ func TestConflictCertainTailIsOne(t *testing.T) {
 		}
 	}
 }
+
+// PredictiveCDF against scipy.stats.betabinom's cdf (testdata/scipy,
+// betabinom_cdf), and 1 at the last outcome by definition.
+func TestPredictiveCDFScipy(t *testing.T) {
+	for _, r := range readScipy(t, "betabinom_cdf") {
+		pmf, err := PriorPredictive(Beta{r.alpha, r.beta}, r.n)
+		if err != nil {
+			t.Fatal(err)
+		}
+		cdf := PredictiveCDF(pmf)
+		if got := cdf[int(r.x)]; !relClose(got, r.value, 1e-9) {
+			t.Errorf("Beta(%v, %v), n %d: P(Y ≤ %v) = %.17g, scipy %.17g", r.alpha, r.beta, r.n, r.x, got, r.value)
+		}
+		if cdf[r.n] != 1 {
+			t.Errorf("Beta(%v, %v), n %d: P(Y ≤ n) = %.17g", r.alpha, r.beta, r.n, cdf[r.n])
+		}
+	}
+}

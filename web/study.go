@@ -426,11 +426,10 @@ type predictiveRow struct{ X, P, Cum string }
 // with at most 60 rows; `parley plan --format json` lists them all).
 func predictiveRows(pmf []float64) []predictiveRow {
 	var rows []predictiveRow
-	cum := 0.0
+	cdf := elicit.PredictiveCDF(pmf)
 	for x, p := range pmf {
-		cum += p
 		if p >= 1e-4 {
-			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatProbability(min(cum, 1))})
+			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatProbability(min(cdf[x], 1))})
 		}
 	}
 	if len(rows) > 60 {

@@ -521,3 +521,18 @@ func TestStudyConflictTailStaysShortOfOne(t *testing.T) {
 		t.Errorf("the page lacks %q: %s", want, page[i:i+120])
 	}
 }
+
+// The "at most" column reaches 1 at the last outcome, P(X ≤ n) = 1 by
+// definition: summing the probabilities, each with the rounding of its
+// log-gamma terms, left 0.99999999 for Beta(3e6, 2) and 1000 trials,
+// which the figures that keep a probability short of 1 would show.
+func TestPredictiveTableEndsAtOne(t *testing.T) {
+	pmf, err := elicit.PriorPredictive(elicit.Beta{Alpha: 3e6, Beta: 2}, 1000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	rows := predictiveRows(pmf)
+	if last := rows[len(rows)-1]; last.X != "1000" || last.Cum != "1" {
+		t.Errorf("last row %+v, want P(X ≤ 1000) = 1", last)
+	}
+}
