@@ -253,7 +253,7 @@ func compare(priors []elicit.NamedPrior, s, n int, id string) *sensitivityBlock 
 	b := &sensitivityBlock{Successes: s, Trials: n, Rows: rows,
 		Picture: chart.IntervalsView{ID: "compare-" + id, XTitle: "posterior proportion",
 			Interval: chart.FormatPercent(workshop.UpdateLevel) + " equal-tailed interval",
-			Title:    fmt.Sprintf("Posterior under each prior after %d successes in %d trials", s, n)}}
+			Title:    "Posterior under each prior after " + successesIn(s, n)}}
 	for _, r := range rows {
 		b.Picture.Rows = append(b.Picture.Rows, chart.IntervalRow{Label: r.Name, Mean: r.Mean, Lo: r.Interval[0], Hi: r.Interval[1],
 			Emphasis: r.Name == "Agreed prior"})

@@ -536,3 +536,40 @@ func TestPredictiveTableEndsAtOne(t *testing.T) {
 		t.Errorf("last row %+v, want P(X ≤ 1000) = 1", last)
 	}
 }
+
+// One success and one trial take the singular on the study page, as they
+// do on the command line (countOf) and in the assurance picture.
+func TestStudyWordsTakeTheSingular(t *testing.T) {
+	for _, c := range []struct {
+		a    elicit.AssuranceResult
+		want string
+	}{
+		{elicit.AssuranceResult{Trials: 300, SuccessFrom: 0, SuccessTo: 1}, "The study succeeds if it sees at most 1 success in 300 trials."},
+		{elicit.AssuranceResult{Trials: 1, SuccessFrom: 1, SuccessTo: 1}, "The study succeeds if it sees at least 1 success in 1 trial."},
+		{elicit.AssuranceResult{Trials: 1, SuccessFrom: 2, SuccessTo: 1}, "No outcome of 1 trial meets the criterion."},
+	} {
+		if got := successWords(c.a); got != c.want {
+			t.Errorf("%+v: %q, want %q", c.a, got, c.want)
+		}
+	}
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"1"}, "trials": {"120"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(sp + "?trials=1")
+	page = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(page, " "))
+	for _, want := range []string{"updated with 1 success in 120 trials", "1 success in 120 trials is", "A study of 1 trial would get",
+		"the number of successes in 1 trial has", "Posterior under each prior after 1 success in 120 trials"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the page lacks %q", want)
+		}
+	}
+	if strings.Contains(page, " 1 successes") || strings.Contains(page, " 1 trials") {
+		i := strings.Index(page, " 1 successes")
+		if i < 0 {
+			i = strings.Index(page, " 1 trials")
+		}
+		t.Errorf("a plural after 1: %s", page[max(0, i-80):i+40])
+	}
+}

@@ -256,24 +256,25 @@ func (u Update) TwiceCounted() string {
 // common practice, no source: they grade the surprise, they do not
 // decide anything.
 func ConflictReading(c elicit.Conflict) string {
+	data := fmt.Sprintf("%d %s in %d %s", c.Successes, plural(c.Successes, "success", "successes"), c.Trials, plural(c.Trials, "trial", "trials"))
 	side := "fewer"
 	if c.Upper < c.Lower {
 		side = "more"
 	}
 	switch p := c.TwoSided; {
 	case p < 0.01:
-		return fmt.Sprintf("The data conflict with the prior: %d successes in %d trials is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", c.Successes, c.Trials, side, p)
+		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", data, side, p)
 	case p < 0.05:
-		return fmt.Sprintf("The data are surprising under the prior: %d successes in %d trials is %s than the prior expected (two-sided tail probability %.2g). Look at the prior and the data again.", c.Successes, c.Trials, side, p)
+		return fmt.Sprintf("The data are surprising under the prior: %s is %s than the prior expected (two-sided tail probability %.2g). Look at the prior and the data again.", data, side, p)
 	}
 	if c.TwoSided < 0.2 {
 		end := "lower"
 		if side == "more" {
 			end = "upper"
 		}
-		return fmt.Sprintf("No sign of conflict at the 5%% level: %d successes in %d trials is within what the prior allowed, though towards its %s end (two-sided tail probability %.2g).", c.Successes, c.Trials, end, c.TwoSided)
+		return fmt.Sprintf("No sign of conflict at the 5%% level: %s is within what the prior allowed, though towards its %s end (two-sided tail probability %.2g).", data, end, c.TwoSided)
 	}
-	return fmt.Sprintf("No sign of conflict: %d successes in %d trials is well within what the prior expected (two-sided tail probability %.2g).", c.Successes, c.Trials, c.TwoSided)
+	return fmt.Sprintf("No sign of conflict: %s is well within what the prior expected (two-sided tail probability %.2g).", data, c.TwoSided)
 }
 
 // CheckDataUpdate refuses a batch d after which the agreed prior could no

@@ -181,7 +181,7 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 			id += "-" + lay.Name
 		}
 		g := newPlot(id, lay, float64(lo)-0.5, float64(hi)+0.5, 0, top*1.08,
-			fmt.Sprintf("number of successes in %d trials", v.Trials), yTitle, nil)
+			"number of successes in "+trialCount(v.Trials), yTitle, nil)
 		g.wholeTicks()
 		d := predictiveDrawing{Plot: g}
 		bw := g.f.Width / float64(hi-lo+1)
@@ -194,9 +194,9 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 		}
 		m.Drawings = append(m.Drawings, d)
 	}
-	m.Title = fmt.Sprintf("Prior predictive distribution of the successes in %d trials", v.Trials)
+	m.Title = "Prior predictive distribution of the successes in " + trialCount(v.Trials)
 	var b strings.Builder
-	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %d trials before any data, under the prior. ", v.Trials)
+	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %s before any data, under the prior. ", trialCount(v.Trials))
 	if lo > 0 || hi < len(v.PMF)-1 {
 		fmt.Fprintf(&b, "Outcomes from %d to %d are drawn; the rest together have probability under %s. ", lo, hi, FormatPercent(2*predictiveTail))
 	}
