@@ -155,7 +155,11 @@ func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
 // does, from the end of the distribution inwards so that a small sum keeps
 // its relative precision; when the span is more than half the outcomes it
 // is 1 minus the sum over the others, so a point of an assurance curve
-// costs at most (n + 1)/2 terms whatever its side.
+// costs at most (n + 1)/2 terms whatever its side. A sum above 1 − 1e-7
+// over a shorter span is also 1 minus the outcomes outside it
+// (predictiveOutside): each term carries the rounding of log-gamma values
+// near n log n, about 1e-9 relative at 10⁶ trials, so the sum itself can
+// read 0.9999999994 where the outcomes outside hold 1e-44.
 func predictiveSum(prior Beta, n, from, to int) float64 {
 	if from > to {
 		return 0
@@ -163,26 +167,89 @@ func predictiveSum(prior Beta, n, from, to int) float64 {
 	if 2*(to-from+1) > n+1 {
 		return math.Max(0, 1-predictiveSum(prior, n, 0, from-1)-predictiveSum(prior, n, to+1, n))
 	}
-	a, b := prior.Alpha, prior.Beta
-	lgN, _ := math.Lgamma(float64(n) + 1)
-	lbPrior := mathext.Lbeta(a, b)
-	term := func(x int) float64 {
-		fx, fnx := float64(x), float64(n-x)
-		lgx, _ := math.Lgamma(fx + 1)
-		lgnx, _ := math.Lgamma(fnx + 1)
-		return math.Exp(lgN - lgx - lgnx + mathext.Lbeta(fx+a, fnx+b) - lbPrior)
-	}
+	t := newPredictiveTerms(prior, n)
 	var sum neumaierSum
 	if from == 0 || to != n && from < n-to {
 		for x := from; x <= to; x++ {
-			sum.add(term(x))
+			sum.add(t.term(x))
 		}
 	} else {
 		for x := to; x >= from; x-- {
-			sum.add(term(x))
+			sum.add(t.term(x))
 		}
 	}
-	return math.Min(sum.sum(), 1)
+	if s := sum.sum(); s <= 1-1e-7 {
+		return math.Min(s, 1)
+	}
+	return math.Max(0, 1-t.outside(from-1, -1)-t.outside(to+1, 1))
+}
+
+// predictiveTerms are the beta-binomial probabilities of n trials under
+// a Beta(a, b) prior, one at a time.
+type predictiveTerms struct {
+	a, b, lgN, lbPrior float64
+	n                  int
+}
+
+func newPredictiveTerms(prior Beta, n int) predictiveTerms {
+	lgN, _ := math.Lgamma(float64(n) + 1)
+	return predictiveTerms{a: prior.Alpha, b: prior.Beta, lgN: lgN, lbPrior: mathext.Lbeta(prior.Alpha, prior.Beta), n: n}
+}
+
+// term is P(X = x), in logs as PriorPredictive computes it.
+func (t predictiveTerms) term(x int) float64 {
+	fx, fnx := float64(x), float64(t.n-x)
+	lgx, _ := math.Lgamma(fx + 1)
+	lgnx, _ := math.Lgamma(fnx + 1)
+	return math.Exp(t.lgN - lgx - lgnx + mathext.Lbeta(fx+t.a, fnx+t.b) - t.lbPrior)
+}
+
+// outside is P(X ≥ x) for step +1, or P(X ≤ x) for step −1: the outcomes
+// from x to the end of the distribution in that direction, summed from
+// x outwards, and stopped once a bound on the rest is below 1e-18. The
+// ratio of successive terms, rightwards
+//
+//	P(X = j + 1)/P(X = j) = (j + a)/(j + 1) · (n − j)/(n − j − 1 + b),
+//
+// has a first factor below 1 for a < 1 and falling in j for a ≥ 1, and a
+// second that falls in j for b ≥ 1 (and rises without bound for b < 1);
+// leftwards, the mirror image. So for every j beyond k the ratio is at
+// most R, the product of the factors at k (1 for a factor below 1), and
+// when R < 1 the terms after one of size p add up to at most p·R/(1 − R).
+// When no such R exists (b < 1 rightwards, a < 1 leftwards: the
+// predictive rises towards that end) every outcome is summed.
+func (t predictiveTerms) outside(x, step int) float64 {
+	var sum neumaierSum
+	fn := float64(t.n)
+	for k := x; k >= 0 && k <= t.n; k += step {
+		p := t.term(k)
+		sum.add(p)
+		fk := float64(k)
+		near, far := (fk+t.a)/(fk+1), (fn-fk)/(fn-fk-1+t.b) // rightwards: the a factor, the b factor
+		aUp, bUp := t.a >= 1, t.b >= 1                      // the factor falls onwards
+		if step < 0 {
+			near, far = fk/(fk-1+t.a), (fn-fk+t.b)/(fn-fk+1)
+		}
+		r := 1.0
+		switch {
+		case step > 0 && !bUp, step < 0 && !aUp:
+			continue // the ratio is unbounded onwards
+		case step > 0:
+			r = far
+			if aUp {
+				r *= near
+			}
+		default:
+			r = near
+			if bUp {
+				r *= far
+			}
+		}
+		if r < 1 && p*r/(1-r) < 1e-18 {
+			break
+		}
+	}
+	return sum.sum()
 }
 
 // AssuranceCurve is the assurance at each planned number of trials in
