@@ -157,7 +157,7 @@ func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
 // is 1 minus the sum over the others, so a point of an assurance curve
 // costs at most (n + 1)/2 terms whatever its side. A sum above 1 − 1e-7
 // over a shorter span is also 1 minus the outcomes outside it
-// (predictiveOutside): each term carries the rounding of log-gamma values
+// (predictiveTerms.outside): each term carries the rounding of log-gamma values
 // near n log n, about 1e-9 relative at 10⁶ trials, so the sum itself can
 // read 0.9999999994 where the outcomes outside hold 1e-44.
 func predictiveSum(prior Beta, n, from, to int) float64 {
@@ -221,12 +221,12 @@ func (t predictiveTerms) term(x int) float64 {
 func (t predictiveTerms) outside(x, step int) float64 {
 	var sum neumaierSum
 	fn := float64(t.n)
+	aUp, bUp := t.a >= 1, t.b >= 1 // the a or the b factor falls onwards
 	for k := x; k >= 0 && k <= t.n; k += step {
 		p := t.term(k)
 		sum.add(p)
 		fk := float64(k)
 		near, far := (fk+t.a)/(fk+1), (fn-fk)/(fn-fk-1+t.b) // rightwards: the a factor, the b factor
-		aUp, bUp := t.a >= 1, t.b >= 1                      // the factor falls onwards
 		if step < 0 {
 			near, far = fk/(fk-1+t.a), (fn-fk+t.b)/(fn-fk+1)
 		}
