@@ -572,4 +572,10 @@ func TestStudyWordsTakeTheSingular(t *testing.T) {
 		}
 		t.Errorf("a plural after 1: %s", page[max(0, i-80):i+40])
 	}
+	// The report says the same of the agreed prior's update.
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	report = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(report, " "))
+	if !strings.Contains(report, "with 1 success in 120 trials gives the posterior") {
+		t.Error("the report does not say 'with 1 success in 120 trials gives the posterior'")
+	}
 }
