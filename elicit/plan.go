@@ -3,8 +3,6 @@ package elicit
 import (
 	"fmt"
 	"math"
-
-	"gonum.org/v1/gonum/mathext"
 )
 
 // Planning a study from a Beta prior for a proportion θ: the prior
@@ -193,7 +191,7 @@ type predictiveTerms struct {
 
 func newPredictiveTerms(prior Beta, n int) predictiveTerms {
 	lgN, _ := math.Lgamma(float64(n) + 1)
-	return predictiveTerms{a: prior.Alpha, b: prior.Beta, lgN: lgN, lbPrior: mathext.Lbeta(prior.Alpha, prior.Beta), n: n}
+	return predictiveTerms{a: prior.Alpha, b: prior.Beta, lgN: lgN, lbPrior: lnBeta(prior.Alpha, prior.Beta), n: n}
 }
 
 // term is P(X = x), in logs as PriorPredictive computes it.
@@ -201,7 +199,7 @@ func (t predictiveTerms) term(x int) float64 {
 	fx, fnx := float64(x), float64(t.n-x)
 	lgx, _ := math.Lgamma(fx + 1)
 	lgnx, _ := math.Lgamma(fnx + 1)
-	return math.Exp(t.lgN - lgx - lgnx + mathext.Lbeta(fx+t.a, fnx+t.b) - t.lbPrior)
+	return math.Exp(t.lgN - lgx - lgnx + lnBeta(fx+t.a, fnx+t.b) - t.lbPrior)
 }
 
 // outside is P(X ≥ x) for step +1, or P(X ≤ x) for step −1: the outcomes

@@ -3,8 +3,6 @@ package elicit
 import (
 	"fmt"
 	"math"
-
-	"gonum.org/v1/gonum/mathext"
 )
 
 // MaxPredictiveTrials is the largest planned number of trials for which
@@ -236,7 +234,8 @@ func hdiInterior(d Beta, level float64) (lo, hi float64) {
 //
 // (Gelman et al. 2013, BDA3 §2.4 and appendix A; Johnson, Kemp & Kotz
 // 2005, "Univariate Discrete Distributions", 3rd ed., §6.7.2), computed in
-// logs with math.Lgamma and mathext.Lbeta. It needs 0 ≤ n ≤
+// logs with math.Lgamma and lnBeta (accurate where mathext.Lbeta loses
+// max(α, β)·2⁻⁵² to cancellation). It needs 0 ≤ n ≤
 // MaxPredictiveTrials.
 func PriorPredictive(prior Beta, n int) ([]float64, error) {
 	if err := prior.Validate(); err != nil {
@@ -250,13 +249,13 @@ func PriorPredictive(prior Beta, n int) ([]float64, error) {
 	}
 	a, b := prior.Alpha, prior.Beta
 	lgN, _ := math.Lgamma(float64(n) + 1)
-	lbPrior := mathext.Lbeta(a, b)
+	lbPrior := lnBeta(a, b)
 	pmf := make([]float64, n+1)
 	for k := range pmf {
 		fk, fnk := float64(k), float64(n-k)
 		lgk, _ := math.Lgamma(fk + 1)
 		lgnk, _ := math.Lgamma(fnk + 1)
-		pmf[k] = math.Exp(lgN - lgk - lgnk + mathext.Lbeta(fk+a, fnk+b) - lbPrior)
+		pmf[k] = math.Exp(lgN - lgk - lgnk + lnBeta(fk+a, fnk+b) - lbPrior)
 	}
 	return pmf, nil
 }
