@@ -27,10 +27,17 @@ func ShapeText(x float64) string {
 // must not put 0.99997 as "1" beside a warning that it is below 1, nor
 // 1.000001 as "1". It is min for most shapes, and at most 17, which
 // reads back as x itself.
-func ShapeDigits(x float64, min int) int {
+func ShapeDigits(x float64, min int) int { return SideDigits(x, 1, min) }
+
+// SideDigits is the number of significant figures, at least min, that x
+// takes to read on its own side of ref (below, at or above it) when
+// rounded: a criterion's value written beside its goal, "0.0400004" and
+// not "0.04" beside "the goal of 0.04 is not met"; a shape beside 1
+// (ShapeDigits). At most 17, which reads back as x itself.
+func SideDigits(x, ref float64, min int) int {
 	for digits := min; digits < 17; digits++ {
 		v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', digits-1, 64), 64)
-		if err == nil && (v < 1) == (x < 1) && (v > 1) == (x > 1) {
+		if err == nil && (v < ref) == (x < ref) && (v > ref) == (x > ref) {
 			return digits
 		}
 	}

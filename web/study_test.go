@@ -14,8 +14,10 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // studyCounts is what a refused data form must leave unchanged.
@@ -577,5 +579,55 @@ func TestStudyWordsTakeTheSingular(t *testing.T) {
 	report = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(report, " "))
 	if !strings.Contains(report, "with 1 success in 120 trials gives the posterior") {
 		t.Error("the report does not say 'with 1 success in 120 trials gives the posterior'")
+	}
+}
+
+// A criterion's value close to its goal is written with the figures that
+// keep it on its own side of the goal: "the expected width is 0.06796:
+// the goal is not met" beside a goal of 0.067962 would contradict itself.
+func TestCriterionValueToldFromItsGoal(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	prior := elicit.Beta{Alpha: 2, Beta: 38}
+	agreeAgain(t, h, ws.ID, prior, "Invented: about 2 in 40.")
+	goal := elicit.SampleSizeGoal{Criterion: elicit.CriterionALC, Interval: elicit.IntervalEqual, Level: 0.95, Length: 0.1}
+	at, err := elicit.CriterionValue(prior, goal, 100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// A goal between the value at 100 trials and its four-figure
+	// rounding: written with four figures, the value would sit on the
+	// wrong side of the goal.
+	four := chart.FormatValue(at.Value)
+	r4, _ := strconv.ParseFloat(four, 64)
+	if r4 == at.Value {
+		t.Fatalf("the value %v has four figures; pick another goal", at.Value)
+	}
+	length := (at.Value + r4) / 2
+	met := "not met"
+	if at.Value <= length {
+		met = "met"
+	}
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, body := h.get(sp)
+	i := strings.Index(body, ">Agreed prior: Beta(2, 38)<")
+	if i < 0 {
+		t.Fatal("no agreed prior to plan under")
+	}
+	choice := body[strings.LastIndex(body[:i], `value="`)+7:]
+	choice = choice[:strings.Index(choice, `"`)]
+	res, body := h.get(sp + "?prior=" + choice + "&trials=100&criterion=alc&interval=equal&level=0.95&length=" + strconv.FormatFloat(length, 'g', -1, 64))
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("plan: %d", res.StatusCode)
+	}
+	body = regexp.MustCompile(`\s+`).ReplaceAllString(body, " ")
+	want := "At the planned 100 trials the expected width is " + chart.FormatValueBeside(at.Value, length) + ": the goal is " + met + "."
+	if !strings.Contains(body, want) {
+		t.Errorf("the page lacks %q", want)
+	}
+	if strings.Contains(body, "expected width is "+four+":") {
+		t.Errorf("the page gives the value as %s, on the wrong side of the goal %v, beside %q", four, length, met)
+	}
+	if !strings.Contains(body, "at most "+input.Typed(length, false)+" wide") {
+		t.Errorf("the page does not give the goal %v as typed", length)
 	}
 }

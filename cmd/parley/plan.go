@@ -6,6 +6,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -371,7 +372,14 @@ func writePlanText(w io.Writer, o planOutput) error {
 			}
 		}
 		fmt.Fprintf(&b, "sample size by %s (%s), the smallest n for which %s: n = %d\n", words[0], s.Criterion, goal, s.N)
-		fmt.Fprintf(&b, "  %s at n = %d: %.4g", words[1], s.N, s.Value)
+		// The value with the figures that keep it on its own side of the
+		// goal (elicit.SideDigits), as the study page writes it.
+		goalValue := s.Length
+		if s.Criterion == string(elicit.CriterionACC) {
+			goalValue = s.Level
+		}
+		beside := func(v float64) string { return strconv.FormatFloat(v, 'g', elicit.SideDigits(v, goalValue, 4), 64) }
+		fmt.Fprintf(&b, "  %s at n = %d: %s", words[1], s.N, beside(s.Value))
 		if s.WorstOutcome != nil {
 			fmt.Fprintf(&b, " (the posterior after %d of %d)", *s.WorstOutcome, s.N)
 		}
@@ -385,7 +393,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 			if *s.MetAtTrials {
 				met = "met"
 			}
-			fmt.Fprintf(&b, "  at the planned %s: %s %.4g (%s)\n", countOf(o.Trials, "trial", "trials"), words[1], *s.ValueAtTrials, met)
+			fmt.Fprintf(&b, "  at the planned %s: %s %s (%s)\n", countOf(o.Trials, "trial", "trials"), words[1], beside(*s.ValueAtTrials), met)
 		}
 	}
 	for _, m := range o.Warnings {

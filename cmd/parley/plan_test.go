@@ -326,3 +326,36 @@ func TestPlanTextAssuranceShortOfOne(t *testing.T) {
 		t.Errorf("an assurance curve point short of 1 printed as 1:\n%s", out)
 	}
 }
+
+// A criterion's value close to its goal keeps the figures that put it on
+// its own side of the goal, as the study page writes it: not "expected
+// width 0.06796 (not met)" beside a goal of 0.067962.
+func TestPlanTextValueToldFromItsGoal(t *testing.T) {
+	goal := elicit.SampleSizeGoal{Criterion: elicit.CriterionALC, Interval: elicit.IntervalEqual, Level: 0.95, Length: 0.1}
+	at, err := elicit.CriterionValue(elicit.Beta{Alpha: 2, Beta: 38}, goal, 100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	// A goal between the value and its four-figure rounding.
+	four := strconv.FormatFloat(at.Value, 'g', 4, 64)
+	r4, _ := strconv.ParseFloat(four, 64)
+	if r4 == at.Value {
+		t.Fatalf("the value %v has four figures; pick another goal", at.Value)
+	}
+	length := (at.Value + r4) / 2
+	met := "not met"
+	if at.Value <= length {
+		met = "met"
+	}
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "2", "--beta", "38", "--trials", "100",
+		"--length", strconv.FormatFloat(length, 'g', -1, 64), "--criterion", "alc")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if strings.Contains(out, "planned 100 trials: expected width "+four+" (") {
+		t.Errorf("the value at 100 trials reads %s, on the wrong side of the goal %v:\n%s", four, length, out)
+	}
+	if want := "planned 100 trials: expected width " + strconv.FormatFloat(at.Value, 'g', elicit.SideDigits(at.Value, length, 4), 64) + " (" + met + ")"; !strings.Contains(out, want) {
+		t.Errorf("text output lacks %q:\n%s", want, out)
+	}
+}

@@ -15,6 +15,15 @@ func FormatValue(v float64) string {
 	return formatSig(v, 4)
 }
 
+// FormatValueBeside writes v as FormatValue does, with as many more
+// figures as it takes to read on its own side of other
+// (elicit.SideDigits): a sample size's expected width of 0.0400004
+// beside its goal of 0.04 is "0.0400004", not "0.04" beside "the goal is
+// not met".
+func FormatValueBeside(v, other float64) string {
+	return formatSig(v, elicit.SideDigits(v, other, 4))
+}
+
 // FormatShape writes a Beta's α or β as FormatValue does, with as many
 // more figures as it takes to read on its own side of 1
 // (elicit.ShapeDigits): 0.99997 is "0.99997", not "1", beside a warning

@@ -170,3 +170,20 @@ func TestFitTableSaysATinyChanceInWords(t *testing.T) {
 		t.Errorf("the fit's table writes a tiny chance with an exponent:\n%s", b.String())
 	}
 }
+
+func TestFormatValueBeside(t *testing.T) {
+	for _, c := range []struct {
+		v, other float64
+		want     string
+	}{
+		{0.0400004, 0.04, "0.0400004"},
+		{0.03997, 0.04, "0.03997"},
+		{0.04, 0.04, "0.04"},
+		{0.9499996, 0.95, "0.9499996"},
+		{1234.6, 1, "1235"},
+	} {
+		if got := FormatValueBeside(c.v, c.other); got != c.want {
+			t.Errorf("FormatValueBeside(%v, %v) = %q, want %q", c.v, c.other, got, c.want)
+		}
+	}
+}
