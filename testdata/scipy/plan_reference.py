@@ -114,8 +114,14 @@ def eq_coverage(a, b, l):
     if a > b:  # the same coverage for 1 - X
         return eq_coverage(b, a, l)
     h = lambda c: special.betainc(a, b, c) - special.betainc(b, a, 1 - c - l)
-    c = optimize.brentq(h, 0, 1 - l, xtol=1e-16, rtol=8.9e-16, maxiter=500)
-    return cover(a, b, c, l)
+    # The root in log c: an absolute tolerance on c itself cannot find a
+    # root far below it (c = 2.6e-25 for Beta(0.05, 4) and l = 0.05), and
+    # near 0 the coverage with a small a moves with c**a.
+    lo = 1e-300
+    if h(lo) >= 0:  # the lower end at 0 to double precision
+        return cover(a, b, 0, l)
+    u = optimize.brentq(lambda u: h(math.exp(u)), math.log(lo), math.log(1 - l), xtol=1e-15, rtol=8.9e-16, maxiter=500)
+    return cover(a, b, math.exp(u), l)
 
 
 def hpd_coverage(a, b, l):
@@ -250,3 +256,11 @@ for A, B, crit, kind, level, l, trim in goals:
         if m <= 3 or N - 1 <= m <= N + 3 or m == again:
             row("criterion", A, B, m, spec, value[m])
     row("samplesize", A, B, N, spec, value[N], again)
+
+# Coverage where the equal-tailed interval's lower end lies far below
+# 1e-16 (about 2.6e-25 for the posterior Beta(0.05, 5) at length 0.05),
+# which eq_coverage solves in log c; at n = 1 the posterior after no
+# success is that Beta.
+for n in (1, 2, 5):
+    spec = "acc:equal:0.95:0.05:0.0"
+    row("criterion", 0.05, 4.0, n, spec, criterion(0.05, 4.0, "acc", "equal", 0.95, 0.05, 0.0, n))
