@@ -258,7 +258,7 @@ for A, B, crit, kind, level, l, trim in goals:
     row("samplesize", A, B, N, spec, value[N], again)
 
 # Coverage where the equal-tailed interval's lower end lies far below
-# 1e-16 (about 2.6e-25 for the posterior Beta(0.05, 5) at length 0.05),
+# 1e-16 (8.2e-27 for the posterior Beta(0.05, 5) at length 0.05),
 # which eq_coverage solves in log c; at n = 1 the posterior after no
 # success is that Beta.
 for n in (1, 2, 5):
