@@ -1,7 +1,6 @@
 package web
 
 import (
-	"context"
 	"fmt"
 	"github.com/parley-elicit/parley/web/chart/charttest"
 	"net/http"
@@ -25,13 +24,7 @@ func TestLargePanelDrawsSpread(t *testing.T) {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
 		}
 	}
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	_, page := g.get(g.qpath(0, g.q))
 	if n := len(charttest.SpreadRows(wideOnly(page))); n != 200 {
 		t.Errorf("%d intervals in the spread, want 200 (every other expert)", n)

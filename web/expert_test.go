@@ -135,6 +135,19 @@ func (g *expertRig) post(path string, form url.Values) (*http.Response, string) 
 	return resp, string(b)
 }
 
+// secondRound closes round 1 for discussion and opens round 2, whose
+// pages show the panel as round 1 closed.
+func (g *expertRig) secondRound() {
+	g.t.Helper()
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
+		g.t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
+		g.t.Fatal(err)
+	}
+}
+
 func (g *expertRig) revisions() []workshop.Revision {
 	g.t.Helper()
 	revs, err := g.db.Revisions(context.Background(), g.ws.ID)
@@ -536,13 +549,7 @@ func TestRoundTwoPanelIsAnonymous(t *testing.T) {
 	if _, page := g.get(g.qpath(0, g.q)); strings.Contains(page, "What the other experts said") {
 		t.Error("round 1 shows the panel")
 	}
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	_, page := g.get(g.qpath(0, g.q))
 	for _, want := range []string{"What the other experts said", `data-label="You"`, "Equal-weight pool", "Round 2 is open"} {
 		if !strings.Contains(page, want) {

@@ -240,13 +240,7 @@ func TestPanelSpeaksInTheExpertsUnit(t *testing.T) {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
 		}
 	}
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	panelOf := func(i int) string {
 		_, page := g.get(g.qpath(i, g.q))
 		start, end := strings.Index(page, "What the other experts said"), strings.Index(page, "Your history")

@@ -1,7 +1,6 @@
 package web
 
 import (
-	"context"
 	"html"
 	"net/http"
 	"strings"
@@ -20,18 +19,12 @@ const (
 // first, and that their curve appears once they save.
 func TestFeedbackWordsFollowTheExpertsOwnAnswer(t *testing.T) {
 	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
-	ctx := context.Background()
 	for i, a := range [][]string{{"0.05", "0.2", "0.4"}, {"0.02", "0.08", "0.2"}} {
 		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
 		}
 	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	page := func(i int) string {
 		_, body := g.get(g.qpath(i, g.q))
 		return html.UnescapeString(body)

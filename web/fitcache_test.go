@@ -240,13 +240,7 @@ func TestPreviewFragmentIsOnlyTheFit(t *testing.T) {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
 		}
 	}
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, "What the other experts said") || !strings.Contains(page, "Your history") {
 		t.Fatal("the round 2 page lacks the panel or the history the fragment must leave out")
 	}
@@ -301,13 +295,7 @@ func TestPanelReadFailureIsSaid(t *testing.T) {
 			t.Fatalf("save: %d", resp.StatusCode)
 		}
 	}
-	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	s, err := New(failingFeedback{g.db}, Options{Logger: slog.New(slog.NewTextHandler(io.Discard, nil))})
 	if err != nil {
 		t.Fatal(err)
@@ -385,12 +373,7 @@ func TestRoundFeedbackComputedOnceForConcurrentRequests(t *testing.T) {
 		}
 	}
 	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	ws, err := g.db.Workshop(ctx, g.ws.ID)
 	if err != nil {
 		t.Fatal(err)

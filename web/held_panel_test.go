@@ -43,12 +43,7 @@ func TestRoundTwoHoldsBackTheCalibrationPanelUntilTheReveal(t *testing.T) {
 	save(1, g.qpath(1, g.qcal), "SEED-REASON-B", "0.3", "0.45", "0.7")
 	save(2, g.qpath(2, g.q), "ORDINARY-REASON-C", "0.1", "0.3", "0.5")
 	save(2, g.qpath(2, g.qcal), "SEED-REASON-C", "0.1", "0.25", "0.5")
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 
 	// The ordinary question: the panel as before.
 	_, page := g.get(g.qpath(0, g.q))

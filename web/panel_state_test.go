@@ -203,12 +203,7 @@ func TestRoundTwoFeedbackFollowsTheSaltedOrder(t *testing.T) {
 		}
 	}
 	ctx := context.Background()
-	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, "discussion"); err != nil {
-		t.Fatal(err)
-	}
-	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round"); err != nil {
-		t.Fatal(err)
-	}
+	g.secondRound()
 	salt, err := g.db.PanelSalt(ctx, g.ws.ID)
 	if err != nil {
 		t.Fatal(err)
