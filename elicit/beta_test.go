@@ -1,9 +1,7 @@
 package elicit
 
 import (
-	"bufio"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -24,11 +22,6 @@ const refPath = "../testdata/r/beta_reference.csv"
 
 func readReference(t *testing.T) []refRow {
 	t.Helper()
-	f, err := os.Open(refPath)
-	if err != nil {
-		t.Fatalf("open R reference table: %v", err)
-	}
-	defer f.Close()
 	num := func(s string) float64 {
 		if s == "" {
 			return math.NaN()
@@ -50,32 +43,12 @@ func readReference(t *testing.T) []refRow {
 		return out
 	}
 	var rows []refRow
-	sc := bufio.NewScanner(f)
-	line := 0
-	for sc.Scan() {
-		line++
-		text := sc.Text()
-		if line == 1 {
-			if !strings.HasPrefix(text, "# R version") {
-				t.Fatalf("%s: first line should name the R version, got %q", refPath, text)
-			}
-			continue
-		}
-		if line == 2 {
-			continue // header
-		}
-		c := strings.Split(text, ",")
-		if len(c) != 10 {
-			t.Fatalf("%s:%d: want 10 columns, got %d", refPath, line, len(c))
-		}
+	for _, c := range referenceTable(t, refPath, "# R version", 10) {
 		rows = append(rows, refRow{
 			kind: c[0], name: c[1], alpha: num(c[2]), beta: num(c[3]),
 			arg: num(c[4]), value: num(c[5]), probs: list(c[6]), vals: list(c[7]),
 			lower: num(c[8]), upper: num(c[9]),
 		})
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
 	}
 	return rows
 }

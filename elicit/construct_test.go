@@ -1,9 +1,7 @@
 package elicit
 
 import (
-	"bufio"
 	"math"
-	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -23,26 +21,13 @@ type matchRow struct {
 
 func readMatchRows(t *testing.T) []matchRow {
 	t.Helper()
-	f, err := os.Open("../testdata/r/interval_match_reference.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	var rows []matchRow
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "kind,") {
-			continue
-		}
-		cols := strings.Split(line, ",")
-		if len(cols) != 8 {
-			t.Fatalf("bad row %q", line)
-		}
+	for _, cols := range referenceTable(t, "../testdata/r/interval_match_reference.csv", "# R version", 8) {
 		v := make([]float64, 7)
 		for i := range v {
+			var err error
 			if v[i], err = strconv.ParseFloat(cols[i+1], 64); err != nil {
-				t.Fatalf("row %q: %v", line, err)
+				t.Fatalf("row %q: %v", strings.Join(cols, ","), err)
 			}
 		}
 		rows = append(rows, matchRow{cols[0], v[0], v[1], v[2], v[3], v[4], v[5], v[6]})

@@ -1,11 +1,8 @@
 package elicit
 
 import (
-	"bufio"
 	"math"
-	"os"
 	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -21,11 +18,6 @@ type envRow struct {
 func readEnvelope(t *testing.T) []envRow {
 	t.Helper()
 	const path = "../testdata/r/envelope_reference.csv"
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatalf("open %s: %v", path, err)
-	}
-	defer f.Close()
 	num := func(s string) float64 {
 		if s == "" {
 			return math.NaN()
@@ -37,22 +29,7 @@ func readEnvelope(t *testing.T) []envRow {
 		return v
 	}
 	var rows []envRow
-	sc := bufio.NewScanner(f)
-	for line := 1; sc.Scan(); line++ {
-		text := sc.Text()
-		if line == 1 {
-			if !strings.HasPrefix(text, "# R version") {
-				t.Fatalf("%s: first line should name the R version", path)
-			}
-			continue
-		}
-		if line == 2 {
-			continue
-		}
-		c := strings.Split(text, ",")
-		if len(c) != 7 {
-			t.Fatalf("%s:%d: %d columns", path, line, len(c))
-		}
+	for _, c := range referenceTable(t, path, "# R version", 7) {
 		rows = append(rows, envRow{c[0], c[1], num(c[2]), num(c[3]), num(c[4]), num(c[5]), num(c[6])})
 	}
 	return rows

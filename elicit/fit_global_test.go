@@ -1,9 +1,7 @@
 package elicit
 
 import (
-	"bufio"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -27,11 +25,6 @@ type globalRow struct {
 func readGlobalReference(t *testing.T) []globalRow {
 	t.Helper()
 	const path = "../testdata/scipy/fit_global_reference.csv"
-	f, err := os.Open(path)
-	if err != nil {
-		t.Fatalf("open %s: %v", path, err)
-	}
-	defer f.Close()
 	num := func(s string) float64 {
 		v, err := strconv.ParseFloat(s, 64)
 		if err != nil {
@@ -47,22 +40,7 @@ func readGlobalReference(t *testing.T) []globalRow {
 		return out
 	}
 	var rows []globalRow
-	sc := bufio.NewScanner(f)
-	for line := 1; sc.Scan(); line++ {
-		text := sc.Text()
-		if line == 1 {
-			if !strings.HasPrefix(text, "# scipy") {
-				t.Fatalf("%s: first line should name the SciPy version", path)
-			}
-			continue
-		}
-		if line == 2 {
-			continue
-		}
-		c := strings.Split(text, ",")
-		if len(c) != 9 {
-			t.Fatalf("%s:%d: %d columns", path, line, len(c))
-		}
+	for _, c := range referenceTable(t, path, "# scipy", 9) {
 		rows = append(rows, globalRow{
 			kind:  c[0],
 			j:     Judgement{Probs: list(c[1]), Values: list(c[2]), Lower: num(c[3]), Upper: num(c[4])},

@@ -1,11 +1,9 @@
 package elicit
 
 import (
-	"bufio"
 	"context"
 	"errors"
 	"math"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -26,22 +24,8 @@ type planRow struct {
 
 func readPlanRows(t *testing.T) []planRow {
 	t.Helper()
-	f, err := os.Open("../testdata/scipy/plan_reference.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	var rows []planRow
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "kind,") {
-			continue
-		}
-		c := strings.Split(line, ",")
-		if len(c) != 7 {
-			t.Fatalf("bad row %q", line)
-		}
+	for _, c := range referenceTable(t, "../testdata/scipy/plan_reference.csv", "# scipy", 7) {
 		r := planRow{kind: c[0], spec: c[4], extra: c[6]}
 		var err1, err2, err3, err4 error
 		r.alpha, err1 = strconv.ParseFloat(c[1], 64)
@@ -49,7 +33,7 @@ func readPlanRows(t *testing.T) []planRow {
 		r.n, err3 = strconv.Atoi(c[3])
 		r.value, err4 = strconv.ParseFloat(c[5], 64)
 		if err := errors.Join(err1, err2, err3, err4); err != nil {
-			t.Fatalf("row %q: %v", line, err)
+			t.Fatalf("row %q: %v", strings.Join(c, ","), err)
 		}
 		rows = append(rows, r)
 	}
@@ -650,22 +634,10 @@ func TestPredictiveOutsideAgrees(t *testing.T) {
 // a goal of 0.0062: gonum's 0.00577 did not, and the assurance read 1e-6
 // instead of 1.
 func TestPosteriorTails(t *testing.T) {
-	f, err := os.Open("../testdata/r/plan_tail_reference.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
-	sc := bufio.NewScanner(f)
 	rows := 0
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "kind,") {
-			continue
-		}
-		c := strings.Split(line, ",")
-		if len(c) != 7 {
-			t.Fatalf("bad row %q", line)
-		}
+	for _, c := range referenceTable(t, "../testdata/r/plan_tail_reference.csv", "# R version", 7) {
+		line := strings.Join(c, ",")
+		var err error
 		var v [6]float64
 		for i := range v {
 			if v[i], err = strconv.ParseFloat(c[i+1], 64); err != nil {

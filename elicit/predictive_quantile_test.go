@@ -1,8 +1,6 @@
 package elicit
 
 import (
-	"bufio"
-	"os"
 	"strconv"
 	"strings"
 	"testing"
@@ -14,22 +12,9 @@ import (
 // fractions). The uniform prior's predictive of 3 trials is uniform on
 // 0…3, so its median is 1, not 2.
 func TestPredictiveQuantileAtTiesAgainstSciPy(t *testing.T) {
-	f, err := os.Open("../testdata/scipy/predictive_quantile_reference.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	rows := 0
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "alpha,") {
-			continue
-		}
-		c := strings.Split(line, ",")
-		if len(c) != 5 {
-			t.Fatalf("bad row %q", line)
-		}
+	for _, c := range referenceTable(t, "../testdata/scipy/predictive_quantile_reference.csv", "# scipy", 5) {
+		line := strings.Join(c, ",")
 		a, err1 := strconv.ParseFloat(c[0], 64)
 		b, err2 := strconv.ParseFloat(c[1], 64)
 		n, err3 := strconv.Atoi(c[2])

@@ -1,10 +1,8 @@
 package elicit
 
 import (
-	"bufio"
 	"errors"
 	"math"
-	"os"
 	"regexp"
 	"strconv"
 	"strings"
@@ -24,25 +22,12 @@ type scipyRow struct {
 
 func readScipy(t *testing.T, kind string) []scipyRow {
 	t.Helper()
-	f, err := os.Open("../testdata/scipy/update_pool_reference.csv")
-	if err != nil {
-		t.Fatal(err)
-	}
-	defer f.Close()
 	var rows []scipyRow
-	sc := bufio.NewScanner(f)
-	for sc.Scan() {
-		line := sc.Text()
-		if strings.HasPrefix(line, "#") || strings.HasPrefix(line, "kind,") {
-			continue
-		}
-		c := strings.Split(line, ",")
-		if len(c) != 7 {
-			t.Fatalf("bad reference line %q", line)
-		}
+	for _, c := range referenceTable(t, "../testdata/scipy/update_pool_reference.csv", "# scipy", 7) {
 		if c[0] != kind {
 			continue
 		}
+		line := strings.Join(c, ",")
 		num := func(s string) float64 {
 			v, err := strconv.ParseFloat(s, 64)
 			if err != nil {
@@ -55,9 +40,6 @@ func readScipy(t *testing.T, kind string) []scipyRow {
 			t.Fatalf("bad n in %q", line)
 		}
 		rows = append(rows, scipyRow{c[0], num(c[1]), num(c[2]), n, num(c[4]), num(c[5]), c[6]})
-	}
-	if err := sc.Err(); err != nil {
-		t.Fatal(err)
 	}
 	if len(rows) == 0 {
 		t.Fatalf("no %s rows in the reference table", kind)
