@@ -196,7 +196,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	fac.open(wsURL)
 	fac.load("open question 1's panel", chromedp.Click(chromedp.CSS(`#questions tbody tr:nth-child(1) a[href*="/q/"]`)))
 	fac.sees("question panel", "first-year failure proportion", "Ada Invented", "Bo Example",
-		"Linear opinion pool", "Linear pool", "Best single Beta", "After the discussion I expect fewer late failures.")
+		"Linear opinion pool", "Equal-weight pool", "Best single Beta", "After the discussion I expect fewer late failures.")
 	if n := fac.count(`#chart svg`); n < 1 {
 		t.Errorf("facilitator: no overlaid picture on the question panel")
 	}

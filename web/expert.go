@@ -1154,7 +1154,7 @@ const overlayLimit = 12
 
 // poolCurve is the equal-weight pool as a curve to draw.
 func poolCurve(pool elicit.Pool) chart.Curve {
-	return chart.Curve{Label: "Equal-weight pool", Role: chart.RolePool, Dist: chart.Pool{Pool: pool}}
+	return chart.Curve{Label: workshop.WeightsEqual.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: pool}}
 }
 
 // nextUnanswered finds, after a save, the first question after this one

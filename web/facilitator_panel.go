@@ -146,7 +146,7 @@ func (st questionState) chartView() picture {
 	}
 	var summary []chart.Curve
 	if st.Pool != nil {
-		summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: *st.Pool}})
+		summary = append(summary, chart.Curve{Label: st.Weights.Scheme.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: *st.Pool}})
 	}
 	if a := st.current(); a != nil {
 		summary = append(summary, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})

@@ -33,7 +33,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		v.Experts[e.ID] = e
 	}
 	for _, q := range rec.Questions {
-		v.Charts[q.ID] = reportChart(q, v.Experts)
+		v.Charts[q.ID] = reportChart(q, v.Experts, rec.Weights.Scheme)
 	}
 	m := facilitatorMeta(ws, "Report: "+ws.Title, "report")
 	m.Caution = true
@@ -43,7 +43,8 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 // reportChart draws a question's pooled experts' current fits, their
 // linear pool (elicit.LinearPool with the record's normalised weights) and
 // the agreed prior; a large panel gets the strip of intervals (picture).
-func reportChart(q record.Question, experts map[int64]workshop.Expert) picture {
+// scheme names the pool.
+func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme workshop.WeightScheme) picture {
 	frame := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	fits := map[int64]elicit.ScaledBeta{}
 	for _, cf := range q.CurrentFits {
@@ -64,7 +65,7 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert) picture {
 			names, dists, weights = append(names, experts[ew.ExpertID].Name), append(dists, d), append(weights, ew.Weight)
 		}
 		if pool, err := elicit.LinearPool(dists, weights); err == nil {
-			summary = append(summary, chart.Curve{Label: "Linear pool", Role: chart.RolePool, Dist: chart.Pool{Pool: pool}})
+			summary = append(summary, chart.Curve{Label: scheme.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: pool}})
 		}
 	}
 	if a := q.AgreedPrior; a != nil {

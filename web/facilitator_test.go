@@ -84,7 +84,7 @@ func TestFacilitatorPagesRender(t *testing.T) {
 		{workshopPath(ws.ID), []string{"Invented data.", "Questions", "Ines Varga", "Ole Brandt", "Who has answered what in round 1", "Close round 1", "Add an expert"}},
 		{workshopPath(ws.ID) + "/questions/new", []string{"Add a question", "Lower bound", "Chips in bins", "calibration question"}},
 		{workshopPath(ws.ID) + "/log", []string{"Decision log", "Workshop created", "Question added", "Expert added"}},
-		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "(this page names the experts beside their answers; the room view does not)", `<th scope="row">Linear pool</th>`, "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
+		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "(this page names the experts beside their answers; the room view does not)", `<th scope="row">Equal-weight pool</th>`, "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
 		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.0413"}},
 	} {
 		res, body := h.get(tc.path)
@@ -703,5 +703,34 @@ func TestInventedBannerNamesNoScenario(t *testing.T) {
 	}
 	if s := b.String(); !strings.Contains(s, "made up") || strings.Contains(s, "inverter") || strings.Contains(s, "utility") {
 		t.Errorf("banner: %s", s)
+	}
+}
+
+// The pool is named by the weights in force on the facilitator's panel
+// (its table and its picture) and in the report, as the study page and
+// the experts' pages name it: "Equal-weight pool" until other weights are
+// set, then "Custom-weight pool".
+func TestPoolNamedByItsWeights(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	if _, body := h.get(qp); !strings.Contains(body, `<th scope="row">Equal-weight pool</th>`) || !strings.Contains(body, `data-label="Equal-weight pool"`) {
+		t.Error("under equal weights the panel does not name the Equal-weight pool")
+	}
+	form := url.Values{"scheme": {"custom"}, "reason": {"Ines knows this model best (invented)"}}
+	for i, e := range es {
+		form.Set(weightField(e.ID), []string{"3", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	_, body := h.get(qp)
+	if !strings.Contains(body, `<th scope="row">Custom-weight pool</th>`) || !strings.Contains(body, `data-label="Custom-weight pool"`) {
+		t.Error("under custom weights the panel does not name the Custom-weight pool")
+	}
+	if strings.Contains(body, `<th scope="row">Equal-weight pool</th>`) {
+		t.Error("under custom weights the panel's table still names the Equal-weight pool")
+	}
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(report, `data-label="Custom-weight pool"`) {
+		t.Error("the report's picture does not name the Custom-weight pool")
 	}
 }

@@ -124,13 +124,13 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 			caveats = append(caveats, StandInCaveat(name, *p.Single))
 		}
 	}
-	pool("Equal-weight pool", equal)
+	pool(WeightsEqual.PoolName(), equal)
 	if inForce.Scheme == WeightsCustom {
 		in.Weights = inForce
-		pool("Custom-weight pool (in force)", PanelState(in))
+		pool(WeightsCustom.PoolName()+" (in force)", PanelState(in))
 	}
 	if perf != nil {
-		name := "Performance-weight pool"
+		name := WeightsPerformance.PoolName()
 		if inForce.Scheme != WeightsPerformance {
 			name += " (suggested)"
 		}

@@ -262,6 +262,19 @@ const (
 	WeightsPerformance WeightScheme = "performance" // Cooke's classical model
 )
 
+// PoolName is the name of the linear pool under the scheme, the same on
+// every page: "Equal-weight pool" (also before any weights are set),
+// "Performance-weight pool" or "Custom-weight pool".
+func (s WeightScheme) PoolName() string {
+	switch s {
+	case WeightsPerformance:
+		return "Performance-weight pool"
+	case WeightsCustom:
+		return "Custom-weight pool"
+	}
+	return "Equal-weight pool"
+}
+
 // Weights are a set of pool weights the facilitator applied to a
 // workshop; the latest set is in force. Sets are never changed.
 type Weights struct {
