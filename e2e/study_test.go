@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 	"net/http"
+	"net/url"
 	"strconv"
 	"strings"
 	"testing"
@@ -124,6 +125,25 @@ func TestStudyInBrowser(t *testing.T) {
 			accessible(t, lead, axe, fmt.Sprintf("study page at %d px", w))
 		}
 		shots.take(lead, fmt.Sprintf("study-02-data-and-plan-%d", w))
+	}
+
+	// A follow-up study planned under the posterior after the recorded
+	// data: the same plan, under Beta(α + s, β + n − s).
+	after, err := url.Parse(here)
+	if err != nil {
+		t.Fatal(err)
+	}
+	qv := after.Query()
+	qv.Set("prior", "posterior")
+	after.RawQuery = qv.Encode()
+	aPost, _ := elicit.Assurance(u.Posterior, 200, goal)
+	for _, w := range []int64{390, 1366} {
+		lead.viewport(w, 900, w < 600)
+		lead.open(after.String())
+		lead.sees("plan under the posterior", "A follow-up to the recorded", "Under Posterior after the recorded data",
+			chart.FormatPercent(aPost.Assurance), "For the recorded data together with a typical outcome of the planned 200 trials")
+		fits(t, lead, "study page under the posterior", w)
+		shots.take(lead, fmt.Sprintf("study-03-plan-under-the-posterior-%d", w))
 	}
 }
 

@@ -63,9 +63,13 @@ type studyView struct {
 	UpdatePic  chart.PanelView
 	Plan       planView
 	Planned    *sensitivityBlock // posteriors at the planned study's typical outcome
-	Observed   *sensitivityBlock // posteriors for the recorded data
-	Skipped    []string          // priors left out of the comparison, and why
-	Caveats    []string          // pools whose single Beta stands in for them only roughly
+	// PlannedOutcome is that typical outcome (successes in the planned
+	// trials); when the plan is under the posterior after the recorded
+	// data, Planned updates each prior with the data and it together.
+	PlannedOutcome int
+	Observed       *sensitivityBlock // posteriors for the recorded data
+	Skipped        []string          // priors left out of the comparison, and why
+	Caveats        []string          // pools whose single Beta stands in for them only roughly
 }
 
 // priorChoice is one prior the study can be planned under.
@@ -75,12 +79,16 @@ type priorChoice struct {
 	// Caveat says that a pool's single Beta stands in for the pool only
 	// roughly (workshop.StandInCaveat); "" otherwise.
 	Caveat string
+	// AfterData marks the posterior after the recorded data: a follow-up
+	// study planned under what the data have already taught.
+	AfterData bool
 }
 
 // planView is the planning section: its form and what it computed.
 type planView struct {
 	Form             *Form
 	Choices          []priorChoice
+	Default          string // the choice planned under unless another is asked for: the agreed prior
 	Chosen           priorChoice
 	Ran              bool
 	Trials           int
@@ -197,12 +205,24 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	if len(priors) == 0 {
 		return v
 	}
+	v.Plan.Default = v.Plan.Choices[len(v.Plan.Choices)-1].Value
+	if v.Update != nil {
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: "posterior", Label: "Posterior after the recorded data",
+			Prior: v.Update.Posterior, AfterData: true})
+	}
 	v.Plan = planStudy(ctx, v.Plan)
 	if v.Plan.Ran {
 		// A typical outcome of the planned study under the prior it is
 		// planned under: the median of that prior's predictive.
 		if outcomes, err := elicit.PlannedOutcomes(v.Plan.Chosen.Prior, v.Plan.Trials); err == nil {
-			v.Planned = compare(priors, outcomes[1], v.Plan.Trials, "planned")
+			v.PlannedOutcome = outcomes[1]
+			s, n := outcomes[1], v.Plan.Trials
+			if v.Plan.Chosen.AfterData {
+				// Planned under what the data taught: each prior learns
+				// from the recorded data and the follow-up together.
+				s, n = s+v.Update.Successes, n+v.Update.Trials
+			}
+			v.Planned = compare(priors, s, n, "planned")
 		}
 	}
 	if v.Update != nil {
@@ -274,7 +294,7 @@ func planStudy(ctx context.Context, p planView) planView {
 		f.Values.Set("trials", strconv.Itoa(defaultPlanTrials))
 	}
 	for name, def := range map[string]string{"level": "0.95", "criterion": string(elicit.CriterionALC),
-		"interval": string(elicit.IntervalEqual), "direction": string(elicit.DirectionBelow), "prior": p.Choices[len(p.Choices)-1].Value} {
+		"interval": string(elicit.IntervalEqual), "direction": string(elicit.DirectionBelow), "prior": p.Default} {
 		if f.Value(name) == "" {
 			f.Values.Set(name, def)
 		}
@@ -283,8 +303,11 @@ func planStudy(ctx context.Context, p planView) planView {
 	for i, c := range p.Choices {
 		values[i] = c.Value
 	}
-	if i, err := strconv.Atoi(f.Choice("prior", "", values...)); err == nil {
-		p.Chosen = p.Choices[i]
+	chosen := f.Choice("prior", "", values...)
+	for _, c := range p.Choices {
+		if c.Value == chosen {
+			p.Chosen = c
+		}
 	}
 	p.Trials = f.Int("trials", 1, elicit.MaxPredictiveTrials)
 	if f.Value("threshold") != "" || f.Value("confidence") != "" {

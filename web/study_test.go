@@ -631,3 +631,47 @@ func TestCriterionValueToldFromItsGoal(t *testing.T) {
 		t.Errorf("the page does not give the goal %v as typed", length)
 	}
 }
+
+// Once data are recorded, a follow-up study can be planned under the
+// posterior after them; the agreed prior stays the default. The plan's
+// numbers are the posterior's (its worth is α + β of the conjugate
+// update, BDA3 §2.4: Beta(2 + 8, 38 + 192) is worth 240 trials), and the
+// comparison updates each prior with the recorded data and the planned
+// study's typical outcome together.
+func TestPlanUnderThePosterior(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 2, Beta: 38}, "Invented: about 2 in 40.")
+	sp := studyPath(ws.ID, qs[0].ID)
+	if _, body := h.get(sp); strings.Contains(body, `value="posterior"`) {
+		t.Fatal("the posterior is offered before any data are recorded")
+	}
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"8"}, "trials": {"200"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, body := h.get(sp)
+	body = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(body, " "))
+	if !strings.Contains(body, `<option value="posterior">Posterior after the recorded data: Beta(10, 230)</option>`) {
+		t.Error("the plan does not offer the posterior after the recorded data, Beta(10, 230), unselected")
+	}
+	if !strings.Contains(body, "<h3>Under Agreed prior, Beta(2, 38)</h3>") {
+		t.Error("the default plan is not under the agreed prior")
+	}
+	_, body = h.get(sp + "?prior=posterior&trials=100")
+	body = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(body, " "))
+	pmf, err := elicit.PriorPredictive(elicit.Beta{Alpha: 10, Beta: 230}, 100)
+	if err != nil {
+		t.Fatal(err)
+	}
+	typical := elicit.PredictiveQuantile(pmf, 0.5)
+	for _, want := range []string{
+		"<h3>Under Posterior after the recorded data, Beta(10, 230)</h3>",
+		"A follow-up to the recorded 8 successes in 200 trials",
+		"carries about as much information as 240 observed trials",
+		"For the recorded data together with a typical outcome of the planned 100 trials: " + strconv.Itoa(typical) + " success",
+		"Each prior learns from both: " + successesIn(8+typical, 300) + " in all.",
+	} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the plan under the posterior lacks %q", want)
+		}
+	}
+}
