@@ -17,7 +17,7 @@ const (
 	RuleDuplicate       Rule = "must not repeat"
 	RuleUnitInterval    Rule = "must lie in [0, 1]"
 	RuleInRange         Rule = "must lie within [lower, upper]"
-	RuleAlphaTooHigh    Rule = "must not exceed the highest calibration score"
+	RuleAlphaTooHigh    Rule = "must not exceed the highest calibration score of an expert whose information score is above 0"
 	RuleNoScoredExperts Rule = "no expert has a calibration × information score above 0"
 	// RuleQuantilesTooClose is the calibration quantiles' form of
 	// RuleValuesTooClose: without bounds, the gap is measured against
@@ -647,7 +647,9 @@ func calibration(counts []int, n int, binP []float64) float64 {
 //
 //	I = Σⱼ pⱼ ln(pⱼ / ((xⱼ − xⱼ₋₁)/(U* − L*))),  x₀ = L*, xₙ₊₁ = U*
 //
-// (Cooke 1991, "Experts in Uncertainty", §12.4). The quantiles must lie
+// (Cooke 1991, "Experts in Uncertainty", §12.4), and exactly 0 when the
+// quantiles split the range in the bins' proportions, as the uniform
+// background itself does (see information). The quantiles must lie
 // strictly inside (lower, upper).
 func InformationScore(quantiles, probs []float64, lower, upper float64) (float64, error) {
 	a := SeedAssessment{Expert: "-", Question: "-", Probs: probs, Quantiles: quantiles}
@@ -673,17 +675,33 @@ func InformationScore(quantiles, probs []float64, lower, upper float64) (float64
 // range near ±1e300 holds a bin near 1e-290 wide. A bin narrower than
 // the smallest normal number takes logSub, as Go's math.Log on amd64 is
 // wrong for subnormals (DEVELOPERS.md, accuracy envelope).
+//
+// The relative information is never below 0 and is 0 only for the
+// uniform background itself (Gibbs' inequality; Kullback & Leibler 1951),
+// but the sum of logarithms carries rounding of either sign: an expert
+// whose quantiles split the range in the bins' proportions scored
+// +5e-16 on [0, 100] and −1.2e-15 on [0, 3000], and so earned a weight
+// of either sign, or the whole weight under a cut-off above the
+// informative experts. A sum within its own rounding bound of 0 is
+// therefore 0. The bound is 8ε Σⱼ pⱼ(|ln pⱼ| + |ln W| + |ln wⱼ| + 4): ε/2
+// per logarithm and per subtraction of the widths, with room to spare
+// (common practice, no source for the factor).
 func information(q, binP []float64, lo, hi float64) float64 {
 	logWidth := logSub(hi - lo)
-	sum := 0.0
+	sum, size := 0.0, 0.0
 	prev := lo
 	for j, p := range binP {
 		next := hi
 		if j < len(q) {
 			next = q[j]
 		}
-		sum += p * (math.Log(p) + logWidth - logSub(next-prev))
+		lp, lw := math.Log(p), logSub(next-prev)
+		sum += p * (lp + logWidth - lw)
+		size += p * (math.Abs(lp) + math.Abs(logWidth) + math.Abs(lw) + 4)
 		prev = next
+	}
+	if sum <= 8*floatEps*size {
+		return 0
 	}
 	return sum
 }

@@ -822,3 +822,64 @@ func TestInformationIsScaleFree(t *testing.T) {
 		}
 	}
 }
+
+// An expert whose quantiles split the intrinsic range exactly in the
+// bins' proportions states the uniform background itself, and the
+// relative information of a distribution with respect to itself is 0
+// (Kullback & Leibler 1951, Ann. Math. Statist. 22: 79–86; Gibbs'
+// inequality: I ≥ 0, with equality only there). By hand, each term
+// pⱼ ln(pⱼ / (wⱼ/W)) has wⱼ/W = pⱼ and is pⱼ ln 1 = 0. The sum of
+// logarithms left rounding noise of either sign (+5e-16 on [0, 100],
+// −1.2e-15 on [0, 3000]), so the same panel, rescaled, gave the
+// know-nothing expert a weight of +1e-13 or −3e-13 (and the other
+// expert a weight above 1), and with α = 0.4, above the informative
+// expert's calibration, the whole weight on [0, 100] but a refusal on
+// [0, 3000].
+func TestUniformExpertHasNoInformation(t *testing.T) {
+	for _, top := range []float64{1, 0.37, 100, 3000, 7e5} {
+		got, err := InformationScore([]float64{0.05 * top, 0.5 * top, 0.95 * top}, seedProbs, 0, top)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got != 0 {
+			t.Errorf("[0, %v]: uniform expert's information %v, want 0", top, got)
+		}
+		// Away from the uniform, the information stays above 0.
+		near, err := InformationScore([]float64{0.05 * top, 0.5 * top, 0.96 * top}, seedProbs, 0, top)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if !(near > 1e-4) {
+			t.Errorf("[0, %v]: near-uniform expert's information %v, want > 1e-4", top, near)
+		}
+
+		var as []SeedAssessment
+		real, bounds := map[string]float64{}, map[string][2]float64{}
+		for i := 0; i < 10; i++ {
+			q := fmt.Sprintf("q%d", i)
+			x := top * float64(10+7*i) / 100
+			real[q], bounds[q] = x, [2]float64{0, top}
+			as = append(as,
+				// U's own quantiles widened by the overshoot reach past
+				// the bounds, so the intrinsic range is [0, top].
+				SeedAssessment{Expert: "U", Question: q, Probs: seedProbs, Quantiles: []float64{0.05 * top, 0.5 * top, 0.95 * top}},
+				SeedAssessment{Expert: "A", Question: q, Probs: seedProbs, Quantiles: []float64{x - 0.05*top, x + 0.01*top, x + 0.06*top}})
+		}
+		s, err := ClassicalModel(as, real, bounds, ModelOptions{})
+		if err != nil {
+			t.Fatalf("[0, %v]: %v", top, err)
+		}
+		w := s.Weights()
+		if s.Experts[1].Information != 0 || s.Experts[1].Combined != 0 || w["U"] != 0 || w["A"] != 1 {
+			t.Errorf("[0, %v]: U information %v, combined %v, weight %v; A weight %v; want 0, 0, 0, 1",
+				top, s.Experts[1].Information, s.Experts[1].Combined, w["U"], w["A"])
+		}
+		a := 0.4 // above A's calibration score, below U's
+		if !(s.Experts[0].Calibration < a && s.Experts[1].Calibration > a) {
+			t.Fatalf("[0, %v]: calibration A %v, U %v: the case needs A < %v < U", top, s.Experts[0].Calibration, s.Experts[1].Calibration, a)
+		}
+		if _, err := ClassicalModel(as, real, bounds, ModelOptions{Alpha: &a}); !calHasRule(err, RuleAlphaTooHigh) {
+			t.Errorf("[0, %v]: α = %v leaves only the uninformative expert: got %v, want %q", top, a, err, RuleAlphaTooHigh)
+		}
+	}
+}
