@@ -84,11 +84,16 @@ func plural(n int, one, many string) string {
 	return many
 }
 
-// percent writes a share as a whole percentage, or with one decimal
-// where rounding would hide that it is not whole (90.4% stays 90.4%).
+// percent writes a share of the weight as a percentage to three
+// significant figures (90.4%, as the scores table writes it), or as many
+// more as keep it on its own side of DominantWeight and short of 100%
+// when it is short of all the weight (elicit.SideDigits): 0.9004 is
+// "90.04%", not "90%" beside "more than 90%".
 func percent(x float64) string {
 	p := 100 * x
-	s := strconv.FormatFloat(p, 'f', 1, 64)
-	s = strings.TrimSuffix(s, ".0")
-	return s + "%"
+	digits := elicit.SideDigits(p, 100*DominantWeight, 3)
+	if x < 1 {
+		digits = max(digits, elicit.SideDigits(p, 100, 3))
+	}
+	return strconv.FormatFloat(p, 'g', digits, 64) + "%"
 }

@@ -116,3 +116,27 @@ func TestScorePerformanceStatesItsStrength(t *testing.T) {
 		t.Errorf("unequal answers: %q", m)
 	}
 }
+
+// A share is written with the figures that keep it on its own side of
+// the threshold it is compared with, and short of 100% when it is short
+// of all the weight (elicit.SideDigits): "90% of the weight (more than
+// 90%)" contradicted itself, and "100%" beside a table that gives the
+// others a share said something the numbers do not.
+func TestDominanceWarningKeepsItsSide(t *testing.T) {
+	for _, c := range []struct {
+		weight float64
+		want   string
+	}{
+		{0.9000001, "A has 90.00001% of the weight (more than 90%)"},
+		{0.9004, "A has 90.04% of the weight (more than 90%)"},
+		{0.9049, "A has 90.5% of the weight (more than 90%)"},
+		{0.99996, "A has 99.996% of the weight (more than 90%)"},
+		{1, "A has 100% of the weight (more than 90%)"},
+	} {
+		m := warningSet(workshop.CalibrationWarnings(12, []workshop.PerformanceExpert{
+			{Name: "A", Answered: 12, Weight: c.weight}, {Name: "B", Answered: 12, Weight: 1 - c.weight}}))[workshop.WarnOneExpertDominates]
+		if !strings.Contains(m, c.want) {
+			t.Errorf("weight %v: %q lacks %q", c.weight, m, c.want)
+		}
+	}
+}
