@@ -723,3 +723,41 @@ func TestScoresOnUnshownTruthsAreProvisional(t *testing.T) {
 		t.Error("scores are still marked provisional after every true value is shown")
 	}
 }
+
+// The optimised cut-off is Ada's and Dana's calibration score, 0.187753,
+// which the page writes as 0.1878. Fixed at that figure, the cut-off is
+// above their score and they get weight 0; their line must then say so
+// with the figures that show it, not "calibration score 0.1878 is below
+// the cut-off 0.1878" (chart.FormatValueBeside).
+func TestWhyBelowTheCutOffShowsTheDifference(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	opt := model(t, nil)
+	typed := fv(opt.Alpha)
+	a, err := strconv.ParseFloat(typed, 64)
+	if err != nil || !(a > opt.Alpha) {
+		t.Fatalf("the case needs the optimised α %v written above itself, got %q", opt.Alpha, typed)
+	}
+	sc := model(t, &a)
+	res, body := p.h.get(p.path() + "?alpha=" + url.QueryEscape(typed))
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("page: %d", res.StatusCode)
+	}
+	dropped := 0
+	for _, e := range sc.Experts {
+		if e.Calibration != opt.Alpha {
+			continue
+		}
+		dropped++
+		if e.Weight != 0 {
+			t.Fatalf("%s: weight %v under α = %v above their score %v", e.Expert, e.Weight, a, e.Calibration)
+		}
+		why := rowCells(t, body, "scores-table", e.Expert)[4]
+		if want := htmlEscape("calibration score 0.18775 is below the cut-off 0.1878, so weight 0"); why != want {
+			t.Errorf("%s: why %q, want %q", e.Expert, why, want)
+		}
+	}
+	if dropped != 2 {
+		t.Errorf("%d experts at the optimised cut-off, want Ada and Dana", dropped)
+	}
+}

@@ -93,7 +93,11 @@ func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine
 			l.Why = "earns " + fv(e.Calibration) + " × " + fv(e.Information) + " = " + fv(e.Combined) +
 				" of the " + fv(total) + " earned by the experts at or above the cut-off"
 		case e.Calibration < alpha:
-			l.Why = "calibration score " + fv(e.Calibration) + " is below the cut-off " + fv(alpha) + ", so weight 0"
+			// Each with the figures that keep it on its own side of the
+			// other: a cut-off typed as a score is shown (0.1878 for
+			// 0.187753) lies above that score.
+			l.Why = "calibration score " + chart.FormatValueBeside(e.Calibration, alpha) + " is below the cut-off " +
+				chart.FormatValueBeside(alpha, e.Calibration) + ", so weight 0"
 		default:
 			l.Why = "calibration × information is 0, so weight 0"
 		}
