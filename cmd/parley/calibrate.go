@@ -383,7 +383,13 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "expert\tanswered\tcalibration\tinformation\tcal × inf\tweight")
 	for _, e := range s.Experts {
-		fmt.Fprintf(tw, "%s\t%d\t%.4g\t%.4f\t%.4g\t%.4g\n", e.Expert, e.N, e.Calibration, e.Information, e.Combined, e.Weight)
+		// A score below the cut-off keeps its side of it: 0.080386, not
+		// 0.08039 beside a cut-off of 0.08039 that left it out.
+		digits := 4
+		if e.Calibration < s.Alpha {
+			digits = elicit.SideDigits(e.Calibration, s.Alpha, 4)
+		}
+		fmt.Fprintf(tw, "%s\t%d\t%.*g\t%.4f\t%.4g\t%.4g\n", e.Expert, e.N, digits, e.Calibration, e.Information, e.Combined, e.Weight)
 	}
 	p := s.Pooled
 	fmt.Fprintf(tw, "%s\t%d\t%.4g\t%.4f\t%.4g\t\n", "pooled (performance weights)", p.N, p.Calibration, p.Information, p.Combined)

@@ -353,3 +353,26 @@ func TestCalibrateBinary(t *testing.T) {
 		}
 	}
 }
+
+// Dagny's calibration score is 0.0803858, printed to four figures as
+// 0.08039. A cut-off fixed at that figure leaves her out, and her row must
+// show a score below the cut-off printed above it, not 0.08039 beside
+// "Cut-off alpha = 0.08039" with weight 0 (elicit.SideDigits).
+func TestCalibrateTextScoreBelowTheCutOff(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", inverterSeeds, "--alpha", "0.08039")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var dagny []string
+	for _, line := range strings.Split(out, "\n") {
+		if f := strings.Fields(line); len(f) > 0 && f[0] == "Dagny" {
+			dagny = f
+		}
+	}
+	if !strings.Contains(out, "Cut-off alpha = 0.08039 (fixed)") || len(dagny) != 6 {
+		t.Fatalf("output:\n%s", out)
+	}
+	if dagny[2] != "0.080386" || dagny[5] != "0" {
+		t.Errorf("Dagny's row %v: want calibration 0.080386 and weight 0", dagny)
+	}
+}
