@@ -29,8 +29,9 @@ type RobustnessTarget struct {
 // and 95th percentiles on target t (nil when it has no pool there).
 // Shifts[t] is the largest of |Δq₀.₀₅|, |Δq₀.₅|, |Δq₀.₉₅| on target t
 // between this case's pool and the full panel's, in units of the
-// target's width (Upper − Lower of the fits, or U* − L* of a calibration
-// question), so for a proportion on [0, 1] it is the absolute shift.
+// target's width (Upper − Lower of the fits; for a calibration question,
+// its bounds' width when it has bounds, else U* − L*), so for a
+// proportion on [0, 1] it is the absolute shift.
 // Shift is the largest over targets. Unpooled names the targets on which
 // no expert with weight remains. Error, when set, says why the rerun
 // failed; the shifts are then empty.
@@ -74,7 +75,7 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 		return LeaveOneOutReport{}, err
 	}
 	set, _ := newSeedSet(assessments, realisations, bounds, opt.Overshoot) // valid: ClassicalModel accepted it
-	watch, err := newWatchers(set, targets)
+	watch, err := newWatchers(set, bounds, targets)
 	if err != nil {
 		return LeaveOneOutReport{}, err
 	}
@@ -132,11 +133,15 @@ type watcher struct {
 	percentiles func(w map[string]float64) ([]float64, bool)
 }
 
-func newWatchers(set *seedSet, targets []RobustnessTarget) ([]watcher, error) {
+func newWatchers(set *seedSet, bounds map[string][2]float64, targets []RobustnessTarget) ([]watcher, error) {
 	var out []watcher
 	if len(targets) == 0 {
 		for _, q := range set.questions {
-			out = append(out, watcher{name: q.name, width: q.hi - q.lo, percentiles: func(w map[string]float64) ([]float64, bool) {
+			width := q.hi - q.lo
+			if b, ok := bounds[q.name]; ok {
+				width = b[1] - b[0]
+			}
+			out = append(out, watcher{name: q.name, width: width, percentiles: func(w map[string]float64) ([]float64, bool) {
 				ws := make([]float64, len(set.experts))
 				for i, e := range set.experts {
 					ws[i] = w[e]

@@ -177,3 +177,43 @@ func TestLeaveOneOutEdgeCases(t *testing.T) {
 		t.Errorf("no assessments: got %v", err)
 	}
 }
+
+// With bounds, a calibration question watched as a target has the
+// question's range [lower, upper] as its width, as a target question's
+// fits do (Upper − Lower): the workshop, which always gives bounds, says
+// "as a fraction of the question's range" and draws the bounds. The
+// shift was taken over U* − L*, here 7.2 of the bounds' 10, so a move of
+// 0.07 of the question's range read 0.1. Without bounds (parley
+// calibrate) the width stays U* − L* (TestLeaveOneOutSeedTargets).
+func TestLeaveOneOutSeedTargetsOnBounds(t *testing.T) {
+	as, real := handSeeds()
+	bounds := map[string][2]float64{}
+	for q := range real {
+		bounds[q] = [2]float64{0, 10}
+	}
+	rep, err := LeaveOneOut(as, real, bounds, ModelOptions{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	checked := 0
+	for _, c := range rep.Cases {
+		for ti, qs := range c.Percentiles {
+			if qs == nil {
+				continue
+			}
+			want := 0.0
+			for i := range qs {
+				want = math.Max(want, math.Abs(qs[i]-rep.Full[ti][i])/10)
+			}
+			if math.Abs(c.Shifts[ti]-want) > 1e-12 {
+				t.Errorf("%s %s, %s: shift %v, want %v (over the bounds' width 10)", c.LeftOut, c.Name, rep.Targets[ti], c.Shifts[ti], want)
+			}
+			if want > 0.01 {
+				checked++
+			}
+		}
+	}
+	if checked == 0 {
+		t.Fatal("no case moved the pool")
+	}
+}
