@@ -7,6 +7,8 @@ import (
 	"strings"
 
 	"github.com/a-h/templ"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // ScoreRow is one expert's result on the calibration questions: the
@@ -193,12 +195,29 @@ func newScoresModel(v ScoresView) scoresModel {
 	m.XLabelY = coord(f.bottom() + 20)
 	m.XTitle, m.XTitleX, m.XTitleY = "calibration score (log scale) → better calibrated", coord(f.Left+f.Width/2), coord(f.bottom()+50)
 
+	// The cut-off and the scores below it are written with the figures
+	// that keep each on its own side of the other: a cut-off fixed at a
+	// score as the page shows it (0.1878 for 0.187753) lies above it.
+	alphaDigits := 3
+	for _, r := range rows {
+		if r.Calibration < alpha {
+			alphaDigits = max(alphaDigits, elicit.SideDigits(alpha, r.Calibration, 3))
+		}
+	}
+	alphaText := formatSig(alpha, alphaDigits)
+	scoreText := func(c float64) string {
+		if c < alpha {
+			return formatSig(c, elicit.SideDigits(c, alpha, 3))
+		}
+		return formatScore(c)
+	}
+
 	// The cut-off: experts left of it get weight 0.
 	cx, _ := xOf(alpha)
 	m.Cut = mapCut{X: coord(cx), Top: coord(f.Top), Bottom: coord(f.bottom()), Left: coord(f.Left), ShadeW: coord(cx - f.Left), ShadeH: coord(f.Height),
 		Shade: alpha > 0 && cx > f.Left, Value: fmt.Sprint(alpha), LabelY: coord(f.Top - 10)}
 	if alpha > 0 {
-		m.Cut.Label = "cut-off α = " + formatSig(alpha, 3)
+		m.Cut.Label = "cut-off α = " + alphaText
 	} else {
 		m.Cut.Label = "cut-off α = 0: no expert is left out"
 	}
@@ -257,7 +276,7 @@ func newScoresModel(v ScoresView) scoresModel {
 		}
 		label := r.Expert + " · " + FormatPercent(r.Weight)
 		if clipped {
-			label += " (calibration " + formatScore(r.Calibration) + ")"
+			label += " (calibration " + scoreText(r.Calibration) + ")"
 		}
 		b := placeLabel(label, x, y, rad, f, placed)
 		placed = append(placed, b)
@@ -278,10 +297,10 @@ func newScoresModel(v ScoresView) scoresModel {
 	var words []string
 	for _, r := range rows {
 		words = append(words, fmt.Sprintf("%s: calibration %s, information %s, weight %s", r.Expert,
-			formatScore(r.Calibration), formatSig(r.Information, 3), FormatPercent(r.Weight)))
+			scoreText(r.Calibration), formatSig(r.Information, 3), FormatPercent(r.Weight)))
 	}
 	m.Title = "Who earns weight: calibration against information"
-	cut := fmt.Sprintf("Experts left of the cut-off α = %s get weight 0", formatSig(alpha, 3))
+	cut := fmt.Sprintf("Experts left of the cut-off α = %s get weight 0", alphaText)
 	if alpha == 0 {
 		cut = "The cut-off is 0, so no expert is left out"
 	}
