@@ -379,7 +379,13 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 	}
 	fmt.Fprintf(w, "Calibration questions: %d; probabilities %s; intrinsic range widened by %g\n",
 		len(s.Questions), strings.Join(probs, ", "), s.Overshoot)
-	fmt.Fprintf(w, "Cut-off alpha = %.4g (%s)\n\n", s.Alpha, how)
+	// A fixed cut-off is printed as typed: to four figures, 0.53370129
+	// would read 0.5337, below a score of 0.5337 it leaves out.
+	alpha := strconv.FormatFloat(s.Alpha, 'g', 4, 64)
+	if !optimised {
+		alpha = strconv.FormatFloat(s.Alpha, 'g', -1, 64)
+	}
+	fmt.Fprintf(w, "Cut-off alpha = %s (%s)\n\n", alpha, how)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "expert\tanswered\tcalibration\tinformation\tcal × inf\tweight")
 	for _, e := range s.Experts {

@@ -376,3 +376,15 @@ func TestCalibrateTextScoreBelowTheCutOff(t *testing.T) {
 		t.Errorf("Dagny's row %v: want calibration 0.080386 and weight 0", dagny)
 	}
 }
+
+// A fixed cut-off is printed as typed, not to four figures, which could
+// put it below the score it leaves out.
+func TestCalibrateTextFixedCutOffAsTyped(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", inverterSeeds, "--alpha", "0.08039123")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(out, "Cut-off alpha = 0.08039123 (fixed)") {
+		t.Errorf("the fixed cut-off is not printed as typed:\n%s", out)
+	}
+}
