@@ -1047,7 +1047,7 @@ func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var51 string
-				templ_7745c5c3_Var51, templ_7745c5c3_Err = templ.JoinStringErrs(fv(e.Calibration))
+				templ_7745c5c3_Var51, templ_7745c5c3_Err = templ.JoinStringErrs(e.CalibrationText)
 				if templ_7745c5c3_Err != nil {
 					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 200, Col: 66}
 				}

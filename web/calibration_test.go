@@ -752,12 +752,20 @@ func TestWhyBelowTheCutOffShowsTheDifference(t *testing.T) {
 		if e.Weight != 0 {
 			t.Fatalf("%s: weight %v under α = %v above their score %v", e.Expert, e.Weight, a, e.Calibration)
 		}
-		why := rowCells(t, body, "scores-table", e.Expert)[4]
-		if want := htmlEscape("calibration score 0.18775 is below the cut-off 0.1878, so weight 0"); why != want {
-			t.Errorf("%s: why %q, want %q", e.Expert, why, want)
+		cells := rowCells(t, body, "scores-table", e.Expert)
+		if want := htmlEscape("calibration score 0.18775 is below the cut-off 0.1878, so weight 0"); cells[4] != want {
+			t.Errorf("%s: why %q, want %q", e.Expert, cells[4], want)
+		}
+		// The table's own column says the same.
+		if cells[1] != "0.18775" {
+			t.Errorf("%s: the calibration column reads %q beside the cut-off 0.1878, want 0.18775", e.Expert, cells[1])
 		}
 	}
 	if dropped != 2 {
 		t.Errorf("%d experts at the optimised cut-off, want Ada and Dana", dropped)
+	}
+	// A fixed cut-off is given as typed, not to four figures.
+	if _, body := p.h.get(p.path() + "?alpha=0.18775321"); !strings.Contains(body, "Cut-off α = 0.18775321, fixed by the facilitator") {
+		t.Error("the fixed cut-off 0.18775321 is not given as typed")
 	}
 }

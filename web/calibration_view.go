@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
@@ -36,7 +37,9 @@ func namesOrNobody(names []string) string {
 // alphaSentence says what the cut-off is and how it was chosen.
 func alphaSentence(alpha float64, rule string) string {
 	if rule == workshop.AlphaFixed {
-		return "Cut-off α = " + fv(alpha) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
+		// As typed: to four figures a cut-off could read as the score
+		// it leaves out.
+		return "Cut-off α = " + input.Typed(alpha, false) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
 	}
 	return "Cut-off α = " + fv(alpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
 		"scored as if it were an expert, does best on these questions. Experts whose calibration score is below it get weight 0."
@@ -72,6 +75,9 @@ func expertNames(es []workshop.Expert) map[int64]string {
 type scoreLine struct {
 	workshop.PerformanceExpert
 	Why string
+	// Calibration written for the table: below the cut-off, with the
+	// figures that keep it below (as Why writes it).
+	CalibrationText string
 }
 
 // scoreLines explains each expert's weight under the cut-off alpha: the
@@ -85,7 +91,10 @@ func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine
 	}
 	out := make([]scoreLine, len(experts))
 	for i, e := range experts {
-		l := scoreLine{PerformanceExpert: e}
+		l := scoreLine{PerformanceExpert: e, CalibrationText: fv(e.Calibration)}
+		if e.Calibration < alpha {
+			l.CalibrationText = chart.FormatValueBeside(e.Calibration, alpha)
+		}
 		switch {
 		case e.Answered == 0:
 			l.Why = "answered no scored calibration question, so has no score and weight 0"
