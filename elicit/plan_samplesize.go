@@ -128,9 +128,20 @@ const (
 // Level (ACC).
 func (g SampleSizeGoal) met(v float64) bool {
 	if g.Criterion == CriterionACC {
-		return v >= g.Level
+		return v >= g.Target()
 	}
-	return v <= g.Length
+	return v <= g.Target()
+}
+
+// Target is the value the criterion's value is held to: the level for
+// ACC (an average coverage of at least it), else the length (a width of
+// at most it). Pages write a criterion's value on its own side of it
+// (SideDigits).
+func (g SampleSizeGoal) Target() float64 {
+	if g.Criterion == CriterionACC {
+		return g.Level
+	}
+	return g.Length
 }
 
 // CriterionResult is a criterion evaluated at n trials.

@@ -105,7 +105,7 @@ func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine
 			// Each with the figures that keep it on its own side of the
 			// other: a cut-off typed as a score is shown (0.1878 for
 			// 0.187753) lies above that score.
-			l.Why = "calibration score " + chart.FormatValueBeside(e.Calibration, alpha) + " is below the cut-off " +
+			l.Why = "calibration score " + l.CalibrationText + " is below the cut-off " +
 				chart.FormatValueBeside(alpha, e.Calibration) + ", so weight 0"
 		default:
 			l.Why = "calibration × information is 0, so weight 0"

@@ -171,6 +171,7 @@ func TestStudyPlanRefusesBadInput(t *testing.T) {
 		{"trials=50&length=0.05&level=0.95&criterion=best", "criterion"},
 		{"trials=50&length=0.05&level=0.95&interval=round", "interval"},
 		{"trials=50&prior=99", "prior"},
+		{"trials=50&prior=posterior", "prior"}, // offered only once data are recorded
 		{"trials=50&length=0.05&level=0.95&criterion=alc&woc_trim=0.05", "woc_trim"},
 		{"trials=50&length=0.05&level=0.95&criterion=woc&woc_trim=1", "woc_trim"},
 		{"trials=50&length=0.000001&level=0.95&criterion=woc", "length"}, // no n up to 100,000 meets it

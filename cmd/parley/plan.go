@@ -374,10 +374,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 		fmt.Fprintf(&b, "sample size by %s (%s), the smallest n for which %s: n = %d\n", words[0], s.Criterion, goal, s.N)
 		// The value with the figures that keep it on its own side of the
 		// goal (elicit.SideDigits), as the study page writes it.
-		goalValue := s.Length
-		if s.Criterion == string(elicit.CriterionACC) {
-			goalValue = s.Level
-		}
+		goalValue := elicit.SampleSizeGoal{Criterion: elicit.Criterion(s.Criterion), Level: s.Level, Length: s.Length}.Target()
 		beside := func(v float64) string { return strconv.FormatFloat(v, 'g', elicit.SideDigits(v, goalValue, 4), 64) }
 		fmt.Fprintf(&b, "  %s at n = %d: %s", words[1], s.N, beside(s.Value))
 		if s.WorstOutcome != nil {
