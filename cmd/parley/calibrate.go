@@ -23,7 +23,7 @@ func init() {
 func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("calibrate", stderr)
 	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95 (- for standard input)")
-	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the pooled decision maker's score)")
+	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the performance-weighted pool's score as if it were an expert)")
 	overshoot := fs.String("overshoot", "", "widening k of each question's intrinsic range (default 0.1)")
 	format := fs.String("format", "text", "text or json")
 	loo := fs.Bool("leave-one-out", false, "also rerun without each calibration question and each expert and report the shift of the pooled 5/50/95 percentiles on the calibration questions")
@@ -371,7 +371,7 @@ func (s *seedCSV) rowError(err error) error {
 func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 	how := "fixed"
 	if optimised {
-		how = "chosen to maximise the pooled decision maker's calibration × information"
+		how = "chosen to maximise the performance-weighted pool's calibration × information, scored as if it were an expert"
 	}
 	probs := make([]string, len(s.Probs))
 	for i, p := range s.Probs {

@@ -135,10 +135,15 @@ func TestCalibrateText(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
-	for _, want := range []string{"Cut-off alpha", "Ama", "Chidi", "pooled (performance weights)", "weight"} {
+	for _, want := range []string{"Cut-off alpha", "Ama", "Chidi", "pooled (performance weights)", "weight",
+		"chosen to maximise the performance-weighted pool's calibration × information"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text output lacks %q:\n%s", want, out)
 		}
+	}
+	// The pool is named in our own words, as on the calibration page.
+	if strings.Contains(out, "decision maker") {
+		t.Errorf("text output says \"decision maker\":\n%s", out)
 	}
 }
 
