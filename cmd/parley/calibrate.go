@@ -22,7 +22,7 @@ func init() {
 
 func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("calibrate", stderr)
-	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95 (- for standard input)")
+	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95, optionally lower,upper after realization (- for standard input)")
 	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the performance-weighted pool's score as if it were an expert)")
 	overshoot := fs.String("overshoot", "", "widening k of each question's intrinsic range (default 0.1)")
 	format := fs.String("format", "text", "text or json")
@@ -67,13 +67,13 @@ func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int 
 	if err != nil {
 		return fail(stderr, "calibrate", err)
 	}
-	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, nil, opt)
+	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, seeds.bounds, opt)
 	if err != nil {
 		return fail(stderr, "calibrate", seeds.rowError(err))
 	}
 	var rob *elicit.LeaveOneOutReport
 	if *loo {
-		r, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, nil, opt, nil)
+		r, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, seeds.bounds, opt, nil)
 		if err != nil {
 			return fail(stderr, "calibrate", seeds.rowError(err))
 		}
@@ -146,6 +146,7 @@ type calibrateOutput struct {
 type seedCSV struct {
 	assessments  []elicit.SeedAssessment
 	realisations map[string]float64
+	bounds       map[string][2]float64 // questions with a lower and an upper bound
 	rows         []int
 	qcols        []string // the quantile columns' names
 }
@@ -157,6 +158,12 @@ var quantileColumn = regexp.MustCompile(`^q([0-9]{2,})$`)
 // seedHeader are the leading columns of a calibration CSV. The British
 // spelling "realisation" is accepted too.
 var seedHeader = []string{"expert", "question", "realization"}
+
+// boundColumns may follow the leading columns: a question's lower and
+// upper bound, as the workshop's questions have (0 and 1 for a
+// proportion). The intrinsic range is cut to them, as on the calibration
+// page, so the same answers score the same here and there.
+var boundColumns = []string{"lower", "upper"}
 
 // requiredQuantiles are the columns every calibration CSV must have.
 var requiredQuantiles = []string{"q05", "q50", "q95"}
@@ -195,8 +202,11 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	if err != nil {
 		return nil, err
 	}
-	out := &seedCSV{realisations: map[string]float64{}, qcols: cols[3:]}
+	first := len(cols) - len(probs) // the first quantile column
+	hasBounds := first > len(seedHeader)
+	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, qcols: cols[first:]}
 	realRow := map[string]int{}
+	boundsRow := map[string]int{}
 	seen := map[[2]string]int{}
 	for {
 		rec, err := cr.Read()
@@ -234,13 +244,24 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		if err := elicit.CheckMagnitude(field(cols[2]), x); err != nil {
 			return nil, err
 		}
+		var b [2]float64
+		bounded := false
+		if hasBounds {
+			if b, bounded, err = seedBounds(field, cell(3), cell(4)); err != nil {
+				return nil, err
+			}
+			if bounded && (x < b[0] || x > b[1]) {
+				return nil, &elicit.InputError{Field: field(cols[2]), Rule: elicit.RuleInRange,
+					Detail: fmt.Sprintf("%v outside [%v, %v]", x, b[0], b[1])}
+			}
+		}
 		for j := range probs {
-			if a.Quantiles[j], err = number(field(cols[3+j]), cell(3+j)); err != nil {
+			if a.Quantiles[j], err = number(field(cols[first+j]), cell(first+j)); err != nil {
 				return nil, err
 			}
 		}
 		if err := a.Validate(); err != nil {
-			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[3:])
+			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[first:])
 		}
 		key := [2]string{a.Expert, a.Question}
 		if first, dup := seen[key]; dup {
@@ -255,6 +276,18 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 			realRow[a.Question] = row
 			out.realisations[a.Question] = x
 		}
+		if hasBounds {
+			had, seenBefore := out.bounds[a.Question]
+			if first, ok := boundsRow[a.Question]; ok && (seenBefore != bounded || had != b) {
+				return nil, &elicit.InputError{Field: field("lower, upper"), Rule: ruleSameBounds,
+					Detail: fmt.Sprintf("%s here, %s on row %d", boundsText(b, bounded), boundsText(had, seenBefore), first)}
+			} else if !ok {
+				boundsRow[a.Question] = row
+				if bounded {
+					out.bounds[a.Question] = b
+				}
+			}
+		}
 		out.assessments = append(out.assessments, a)
 		out.rows = append(out.rows, row)
 	}
@@ -267,6 +300,50 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 // ruleSameRealisation is broken when rows of one question give different
 // realisations.
 const ruleSameRealisation elicit.Rule = "must be the same on every row of the question"
+
+// ruleSameBounds is broken when rows of one question give different bounds.
+const ruleSameBounds elicit.Rule = "must be the same on every row of the question (both empty for a question without bounds)"
+
+// ruleBoundsPair is broken when a row gives one bound and not the other.
+const ruleBoundsPair elicit.Rule = "must both be given, or both be empty for a question without bounds"
+
+// seedBounds reads a row's lower and upper cells: both empty is a
+// question without bounds; both given must be finite, within the
+// magnitude rule and in order (the classical model checks that the
+// realisation and the quantiles lie inside).
+func seedBounds(field func(string) string, lo, hi string) ([2]float64, bool, error) {
+	if lo == "" && hi == "" {
+		return [2]float64{}, false, nil
+	}
+	if lo == "" || hi == "" {
+		return [2]float64{}, false, &elicit.InputError{Field: field("lower, upper"), Rule: ruleBoundsPair,
+			Detail: fmt.Sprintf("lower %q, upper %q", lo, hi)}
+	}
+	var b [2]float64
+	for i, c := range [2]struct{ name, text string }{{"lower", lo}, {"upper", hi}} {
+		v, err := number(field(c.name), c.text)
+		if err != nil {
+			return b, false, err
+		}
+		if err := elicit.CheckMagnitude(field(c.name), v); err != nil {
+			return b, false, err
+		}
+		b[i] = v
+	}
+	if !(b[0] < b[1]) {
+		return b, false, &elicit.InputError{Field: field("upper"), Rule: elicit.RuleBoundsOrder,
+			Detail: fmt.Sprintf("lower %v, upper %v", b[0], b[1])}
+	}
+	return b, true, nil
+}
+
+// boundsText writes a question's bounds for a message.
+func boundsText(b [2]float64, bounded bool) string {
+	if !bounded {
+		return "no bounds"
+	}
+	return fmt.Sprintf("[%v, %v]", b[0], b[1])
+}
 
 func csvError(err error) error {
 	var pe *csv.ParseError
@@ -291,9 +368,17 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 				Detail: fmt.Sprintf("want %q", want)}
 		}
 	}
+	rest := cols[len(seedHeader):]
+	switch {
+	case len(rest) >= 2 && rest[0] == boundColumns[0] && rest[1] == boundColumns[1]:
+		rest = rest[2:]
+	case len(rest) >= 1 && (rest[0] == boundColumns[0] || rest[0] == boundColumns[1]):
+		return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(rest[0]), Rule: ruleSeedHeader,
+			Detail: "the bound columns are lower,upper, both, in that order, right after realization"}
+	}
 	var probs []float64
 	have := map[string]bool{}
-	for _, c := range cols[len(seedHeader):] {
+	for _, c := range rest {
 		m := quantileColumn.FindStringSubmatch(c)
 		if m == nil {
 			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: ruleSeedHeader,
@@ -324,7 +409,7 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	return cols, probs, nil
 }
 
-const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (more qNN columns allowed, increasing)"
+const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization; more qNN columns allowed, increasing)"
 
 // renameQuantiles turns a quantiles[j] field into the CSV column name, and
 // prefixes the row.
@@ -404,7 +489,7 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 
 // writeLeaveOneOut prints the robustness report as a table.
 func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport) error {
-	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its intrinsic range: %.4g\n\n", r.MaxShift)
+	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range): %.4g\n\n", r.MaxShift)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "left out\tname\talpha\tlargest shift\tnote")
 	for _, c := range r.Cases {

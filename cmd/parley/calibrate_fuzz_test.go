@@ -32,6 +32,12 @@ func FuzzCalibrateCSV(f *testing.F) {
 		f.Fatalf("the example scores with status %d: %s", code, errOut.String())
 	}
 	header := "expert,question,realization,q05,q50,q95\n"
+	boundsHeader := "expert,question,realization,lower,upper,q05,q50,q95\n"
+	b, err := os.ReadFile("../../testdata/calibration/inverter_seeds_bounded.csv")
+	if err != nil {
+		f.Fatal(err)
+	}
+	bounded := string(b)
 	for _, seed := range []string{
 		v,
 		"",
@@ -62,6 +68,14 @@ func FuzzCalibrateCSV(f *testing.F) {
 		// Adjacent floats: the widened range rounded back onto the
 		// quantiles and the scores were ±Inf and NaN (review 3, finding 2).
 		header + "A,x,5,5,5.000000000000001,5.000000000000002\nB,x,5,5,5.000000000000001,5.000000000000002\n",
+		// A question's bounds in the optional lower,upper columns.
+		bounded,
+		boundsHeader + "A,x,0.5,0,1,0.1,0.5,0.9\nB,x,0.5,0,1,0.2,0.4,0.8\nA,y,3,,,1,2,4\nB,y,3,,,2,3,5\n",
+		boundsHeader + "A,x,0.5,0,1,0,0.5,0.9\n",            // a quantile on a bound
+		boundsHeader + "A,x,0.5,0,,0.1,0.5,0.9\n",           // one bound
+		boundsHeader + "A,x,0.5,1,0,0.1,0.5,0.9\n",          // bounds reversed
+		boundsHeader + "A,x,0.5,-1e308,1e308,0.1,0.5,0.9\n", // bounds too wide
+		boundsHeader + "A,x,0.5,0,1,0.1,0.5,0.9\nB,x,0.5,0,2,0.2,0.4,0.8\n",
 	} {
 		f.Add(seed, false, false)
 	}

@@ -2,10 +2,13 @@ package main
 
 import (
 	"bytes"
+	"encoding/csv"
+	"fmt"
 	"math"
 	"os"
 	"os/exec"
 	"path/filepath"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -168,6 +171,7 @@ func TestCalibrateExtraQuantiles(t *testing.T) {
 
 func TestCalibrateBadInput(t *testing.T) {
 	const head = "expert,question,realization,q05,q50,q95\n"
+	const boundsHead = "expert,question,realization,lower,upper,q05,q50,q95\n"
 	const adjacent = "A,q1,5,5,5.000000000000001,5.000000000000002\nB,q1,5,5,5.000000000000001,5.000000000000002\n"
 	for _, c := range []struct {
 		name string
@@ -208,6 +212,18 @@ func TestCalibrateBadInput(t *testing.T) {
 		{"larger than 4 MiB", head + strings.Repeat("A,s1,1,0,1,2\n", 350_000), nil, []string{"input: " + string(input.RuleTooLong)}},
 		{"a header column of 1 MB", head[:len(head)-1] + "," + strings.Repeat("x", 1<<20) + "\n", nil, []string{`header column "xxxxxxxx`}},
 		{"overshoot too small to widen", head + "A,s1,1,0,1,2\n", []string{"--overshoot", "1e-300"}, []string{`questions["s1"]: ` + string(elicit.RuleRangeCollapsed)}},
+		// A question's bounds: both or neither, in order, the same on
+		// every row, holding the realisation and the quantiles inside.
+		{"bounds header without upper", "expert,question,realization,lower,q05,q50,q95\nA,s1,1,0,0.5,1,2\n", nil, []string{`header column "lower"`, "lower,upper"}},
+		{"bounds header reversed", "expert,question,realization,upper,lower,q05,q50,q95\nA,s1,1,9,0,0.5,1,2\n", nil, []string{`header column "upper"`}},
+		{"one bound", boundsHead + "A,s1,1,0,,0.5,1,2\n", nil, []string{"row 2: lower, upper", string(ruleBoundsPair)}},
+		{"bounds out of order", boundsHead + "A,s1,1,9,0,0.5,1,2\n", nil, []string{"row 2: upper", string(elicit.RuleBoundsOrder)}},
+		{"bound not a number", boundsHead + "A,s1,1,zero,9,0.5,1,2\n", nil, []string{"row 2: lower"}},
+		{"bound too large", boundsHead + "A,s1,1,0,1e301,0.5,1,2\n", nil, []string{"row 2: upper", string(elicit.RuleBoundsRange)}},
+		{"realization outside the bounds", boundsHead + "A,s1,12,0,9,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleInRange), "outside [0, 9]"}},
+		{"quantile on a bound", boundsHead + "A,s1,1,0,9,0,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleValueInBounds)}},
+		{"bounds differ", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,0,10,0.5,1,2\n", nil, []string{"row 3: lower, upper", string(ruleSameBounds), "[0, 10] here, [0, 9] on row 2"}},
+		{"bounds dropped on one row", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,,,0.5,1,2\n", nil, []string{"row 3: lower, upper", "no bounds here, [0, 9] on row 2"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -391,5 +407,118 @@ func TestCalibrateTextFixedCutOffAsTyped(t *testing.T) {
 	}
 	if !strings.Contains(out, "Cut-off alpha = 0.08039123 (fixed)") {
 		t.Errorf("the fixed cut-off is not printed as typed:\n%s", out)
+	}
+}
+
+// TestCalibrateAgainstSciPy checks parley calibrate against an
+// implementation of Cooke's classical model written apart from Parley,
+// with SciPy 1.10.1's chi-square tail (testdata/scipy/classical_reference.py;
+// its rows in classical_reference.csv), for the invented inverter seeds
+// with and without each question's bounds, with the cut-off optimised and
+// fixed at 0.1.
+func TestCalibrateAgainstSciPy(t *testing.T) {
+	f, err := os.Open("../../testdata/scipy/classical_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer f.Close()
+	r := csv.NewReader(f)
+	r.Comment = '#'
+	rows, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	type run struct{ file, mode string }
+	want := map[run][][]string{}
+	for _, row := range rows[1:] {
+		k := run{row[0], row[1]}
+		want[k] = append(want[k], row[2:])
+	}
+	if len(want) != 4 {
+		t.Fatalf("%d runs in the reference, want 4", len(want))
+	}
+	num := func(s string) float64 {
+		v, err := strconv.ParseFloat(s, 64)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return v
+	}
+	close := func(what string, got, w float64) {
+		t.Helper()
+		if math.Abs(got-w) > 1e-9*math.Max(math.Abs(w), 1e-12) {
+			t.Errorf("%s = %.17g, SciPy reference %.17g", what, got, w)
+		}
+	}
+	for k, rows := range want {
+		args := []string{"--input", "../../" + k.file}
+		if k.mode != "optimised" {
+			args = append(args, "--alpha", k.mode)
+		}
+		got := runCalibrateJSON(t, args...)
+		byName := map[string]int{}
+		for i, e := range got.Experts {
+			byName[e.Expert] = i
+		}
+		for _, row := range rows {
+			what := fmt.Sprintf("%s %s %s", k.file, k.mode, row[0])
+			switch row[0] {
+			case "alpha":
+				close(what, *got.Alpha, num(row[1]))
+			case "pooled":
+				close(what+" calibration", *got.Pooled.Calibration, num(row[1]))
+				close(what+" information", *got.Pooled.Information, num(row[2]))
+			default:
+				i, ok := byName[row[0]]
+				if !ok {
+					t.Errorf("%s: no such expert in the output", what)
+					continue
+				}
+				e := got.Experts[i]
+				close(what+" calibration", *e.Calibration, num(row[1]))
+				close(what+" information", *e.Information, num(row[2]))
+				close(what+" weight", *e.Weight, num(row[3]))
+			}
+		}
+	}
+}
+
+// TestCalibrateBoundsCutTheRange: a question's bounds cut its intrinsic
+// range as on the calibration page; the same answers without them score
+// otherwise (the percentages' ranges, widened by 10%, pass below 0).
+func TestCalibrateBoundsCutTheRange(t *testing.T) {
+	plain := runCalibrateJSON(t, "--input", inverterSeeds)
+	bounded := runCalibrateJSON(t, "--input", "../../testdata/calibration/inverter_seeds_bounded.csv")
+	for i, e := range bounded.Experts {
+		if *e.Information == *plain.Experts[i].Information {
+			t.Errorf("%s: information %v with bounds and without", e.Expert, *e.Information)
+		}
+	}
+	// The JSON reports each question's intrinsic range: cut at 0 where the
+	// question is bounded below by 0, left alone where it has no bounds.
+	code, out, errOut := runCLI(t, "", "calibrate", "--format", "json", "--input", "../../testdata/calibration/inverter_seeds_bounded.csv")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var q struct {
+		Questions []struct {
+			Question string  `json:"question"`
+			Lower    float64 `json:"lower"`
+			Upper    float64 `json:"upper"`
+		} `json:"questions"`
+	}
+	decodeJSON(t, out, &q)
+	ranges := map[string][2]float64{}
+	for _, x := range q.Questions {
+		ranges[x.Question] = [2]float64{x.Lower, x.Upper}
+	}
+	// Hand-worked: dc_capacitor_fail_pct spans [0.2, 2.5]; widened by 0.23
+	// it starts at −0.03, cut to the bound 0. mean_days_to_repair spans
+	// [2, 15]; widened by 1.3 it is [0.7, 16.3], with no bound to cut.
+	if r := ranges["dc_capacitor_fail_pct"]; r[0] != 0 || math.Abs(r[1]-2.73) > 1e-12 {
+		t.Errorf("dc_capacitor_fail_pct range %v, want [0, 2.73]", r)
+	}
+	if r := ranges["mean_days_to_repair"]; math.Abs(r[0]-0.7) > 1e-12 || math.Abs(r[1]-16.3) > 1e-12 {
+		t.Errorf("mean_days_to_repair range %v, want [0.7, 16.3]", r)
 	}
 }
