@@ -1,7 +1,9 @@
 package web
 
 import (
+	"bytes"
 	"errors"
+	"fmt"
 	"net/http"
 	"net/url"
 	"sort"
@@ -21,10 +23,12 @@ import (
 // mounted inside /w/{workshop} by facilitatorRoutes.
 //
 //	GET  /w/{workshop}/calibration[?alpha=A]       questions, scores, robustness, pools side by side
+//	GET  /w/{workshop}/calibration.csv[?alpha=A]   the scored answers, for parley calibrate
 //	POST /w/{workshop}/calibration/q/{question}    enter or reveal a true value
 //	POST /w/{workshop}/calibration/weights         choose equal, performance or custom weights
 func (s *Server) calibrationRoutes(r chi.Router) {
 	r.Get("/calibration", s.calibrationPage)
+	r.Get("/calibration.csv", s.calibrationCSV)
 	r.Post("/calibration/q/{question}", s.setTrueValue)
 	r.Post("/calibration/weights", s.setCalibrationWeights)
 }
@@ -85,6 +89,61 @@ func (s *Server) calibrationPage(w http.ResponseWriter, r *http.Request) {
 	}
 	af := newForm(r.URL.Query())
 	s.showCalibration(w, r, http.StatusOK, ws, calibrationForms{alpha: af})
+}
+
+// calibrationCSV downloads the answers the page scores, with each
+// question's true value and bounds, in the form parley calibrate reads
+// (record.WriteCalibrationCSV), so the scores can be checked outside the
+// server. Until the page can score (a calibration question without a
+// true value, or none answered) it answers 409 and says why.
+func (s *Server) calibrationCSV(w http.ResponseWriter, r *http.Request) {
+	ws, ok := s.loadWorkshop(w, r)
+	if !ok {
+		return
+	}
+	af := newForm(r.URL.Query())
+	alpha := alphaOf(af)
+	if !af.OK() {
+		http.Error(w, "The cut-off alpha "+af.Errors["alpha"]+". Nothing was downloaded.", http.StatusBadRequest)
+		return
+	}
+	d, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
+	if !set.Ready() {
+		http.Error(w, "There is nothing to score yet: every calibration question needs its true value and at least one answer.", http.StatusConflict)
+		return
+	}
+	var buf bytes.Buffer
+	if err := record.WriteCalibrationCSV(&buf, ws.Title, set, alpha); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	w.Header().Set("Content-Type", "text/csv; charset=utf-8")
+	w.Header().Set("Content-Disposition", fmt.Sprintf(`attachment; filename="parley-workshop-%d-calibration.csv"`, ws.ID))
+	_, _ = buf.WriteTo(w)
+}
+
+// calibrationCSVPath links the download of the scored answers, with the
+// page's fixed cut-off when it has one.
+func calibrationCSVPath(ws int64, af *Form) string {
+	p := calibrationPath(ws) + ".csv"
+	if a := strings.TrimSpace(af.Value("alpha")); a != "" && af.OK() {
+		p += "?" + url.Values{"alpha": {a}}.Encode()
+	}
+	return p
+}
+
+// calibrationCSVAlpha ends the download's sentence with the page's fixed
+// cut-off, which the command needs to score the same.
+func calibrationCSVAlpha(af *Form) string {
+	if a := strings.TrimSpace(af.Value("alpha")); a != "" && af.OK() {
+		return " with --alpha " + a
+	}
+	return ""
 }
 
 // alphaOf parses the optional cut-off field: nil means optimise.

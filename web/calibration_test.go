@@ -2,6 +2,8 @@ package web
 
 import (
 	"context"
+	"encoding/csv"
+	"io"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -767,5 +769,101 @@ func TestWhyBelowTheCutOffShowsTheDifference(t *testing.T) {
 	// A fixed cut-off is given as typed, not to four figures.
 	if _, body := p.h.get(p.path() + "?alpha=0.18775321"); !strings.Contains(body, "Cut-off α = 0.18775321, fixed by the facilitator") {
 		t.Error("the fixed cut-off 0.18775321 is not given as typed")
+	}
+}
+
+// TestCalibrationCSVIsWhatThePageScores: the calibration page links a
+// download of the answers it scores, in the form parley calibrate reads,
+// with each question's true value and bounds; the file's rows, scored by
+// the classical model, give the page's weights. Before the true values are
+// in it answers 409, a bad cut-off 400, and nobody signed out gets it.
+func TestCalibrationCSVIsWhatThePageScores(t *testing.T) {
+	p := newSeedPanel(t)
+	csvPath := p.path() + ".csv"
+	if res, body := p.h.get(csvPath); res.StatusCode != http.StatusConflict || !strings.Contains(body, "every calibration question needs its true value") {
+		t.Fatalf("before the true values: %d %q", res.StatusCode, body)
+	}
+	p.enterTruths(t, false)
+	_, page := p.h.get(p.path())
+	if !strings.Contains(page, `href="`+csvPath+`" download>download the scored answers (CSV)</a>`) {
+		t.Errorf("the page does not link the download")
+	}
+	res, body := p.h.get(csvPath)
+	if res.StatusCode != http.StatusOK || res.Header.Get("Content-Type") != "text/csv; charset=utf-8" ||
+		!strings.Contains(res.Header.Get("Content-Disposition"), `attachment; filename="parley-workshop-`) {
+		t.Fatalf("download: %d %v", res.StatusCode, res.Header)
+	}
+	if !strings.Contains(body, "# Q2: seed share 1\n") || !strings.Contains(body, "# Score them again with: parley calibrate --input FILE\n") {
+		t.Errorf("comment lines missing:\n%s", body)
+	}
+	r := csv.NewReader(strings.NewReader(body))
+	r.Comment = '#'
+	rows, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got := strings.Join(rows[0], ","); got != "expert,question,realization,lower,upper,q05,q50,q95" {
+		t.Fatalf("header %q", got)
+	}
+	// Four experts on the three 5/50/95 questions; the quartile seed is
+	// left out, as on the page.
+	if len(rows) != 1+len(seedNames)*len(seedTruths) {
+		t.Fatalf("%d rows:\n%s", len(rows), body)
+	}
+	var as []elicit.SeedAssessment
+	real := map[string]float64{}
+	bounds := map[string][2]float64{}
+	for _, row := range rows[1:] {
+		num := func(i int) float64 {
+			v, err := strconv.ParseFloat(row[i], 64)
+			if err != nil {
+				t.Fatalf("row %v: %v", row, err)
+			}
+			return v
+		}
+		real[row[1]] = num(2)
+		bounds[row[1]] = [2]float64{num(3), num(4)}
+		as = append(as, elicit.SeedAssessment{Expert: row[0], Question: row[1], Probs: []float64{0.05, 0.5, 0.95},
+			Quantiles: []float64{num(5), num(6), num(7)}})
+	}
+	for q, b := range bounds {
+		if b != [2]float64{0, 1} {
+			t.Errorf("%s: bounds %v, want the question's [0, 1]", q, b)
+		}
+	}
+	fromFile, err := elicit.ClassicalModel(as, real, bounds, elicit.ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := model(t, nil)
+	for i, e := range want.Experts {
+		g := fromFile.Experts[i]
+		if g.Expert != e.Expert || g.Weight != e.Weight || g.Calibration != e.Calibration || g.Information != e.Information {
+			t.Errorf("from the file %+v, the page's model %+v", g, e)
+		}
+	}
+
+	// A fixed cut-off travels with the link and into the command.
+	_, page = p.h.get(p.path() + "?alpha=0.2")
+	if !strings.Contains(page, `href="`+csvPath+`?alpha=0.2" download>`) || !strings.Contains(page, "on the file with --alpha 0.2.") {
+		t.Errorf("the page's fixed cut-off is not in the download's link and words")
+	}
+	if _, body := p.h.get(csvPath + "?alpha=0.2"); !strings.Contains(body, "parley calibrate --input FILE --alpha 0.2\n") {
+		t.Errorf("fixed cut-off missing from the file's command:\n%s", body)
+	}
+	if res, body := p.h.get(csvPath + "?alpha=2"); res.StatusCode != http.StatusBadRequest || !strings.Contains(body, "alpha "+string(elicit.RuleUnitInterval)) {
+		t.Errorf("alpha=2: %d %q", res.StatusCode, body)
+	}
+
+	// Signed out: no file.
+	anon := &http.Client{CheckRedirect: func(*http.Request, []*http.Request) error { return http.ErrUseLastResponse }}
+	res, err = anon.Get(p.h.ts.URL + csvPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	b, _ := io.ReadAll(res.Body)
+	res.Body.Close()
+	if res.StatusCode == http.StatusOK || strings.Contains(string(b), "realization") {
+		t.Errorf("signed out: %d %q", res.StatusCode, b)
 	}
 }

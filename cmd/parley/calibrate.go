@@ -165,12 +165,10 @@ var seedHeader = []string{"expert", "question", "realization"}
 // page, so the same answers score the same here and there.
 var boundColumns = []string{"lower", "upper"}
 
-// requiredQuantiles are the columns every calibration CSV must have.
-var requiredQuantiles = []string{"q05", "q50", "q95"}
-
 // readSeedCSV reads a calibration CSV: a header expert,question,
-// realization followed by quantile columns qNN in increasing order, which
-// must include q05, q50 and q95; then one row per expert and question.
+// realization, optionally lower,upper, followed by quantile columns qNN in
+// increasing order (usually q05, q50, q95); then one row per expert and
+// question.
 // Lines starting with # are comments. Errors name the row (the line in
 // the file), the column and the rule.
 // maxSeedInput bounds a calibration CSV: 200 experts answering 100
@@ -377,7 +375,6 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 			Detail: "the bound columns are lower,upper, both, in that order, right after realization"}
 	}
 	var probs []float64
-	have := map[string]bool{}
 	for _, c := range rest {
 		m := quantileColumn.FindStringSubmatch(c)
 		if m == nil {
@@ -398,18 +395,18 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: elicit.RuleProbOpen, Detail: "got 0"}
 		}
 		probs = append(probs, p)
-		have[c] = true
 	}
-	for _, q := range requiredQuantiles {
-		if !have[q] {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(q), Rule: elicit.RuleRequired,
-				Detail: "need at least q05, q50 and q95"}
-		}
+	// The classical model scores any increasing probabilities, as the
+	// calibration page does for questions asked at 10/50/90; q05, q50 and
+	// q95 are the usual ones, not a rule.
+	if len(probs) == 0 {
+		return nil, nil, &elicit.InputError{Field: "header", Rule: elicit.RuleRequired,
+			Detail: "no quantile column; name them qNN, e.g. q05, q50, q95"}
 	}
 	return cols, probs, nil
 }
 
-const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization; more qNN columns allowed, increasing)"
+const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization; other qNN columns allowed, increasing)"
 
 // renameQuantiles turns a quantiles[j] field into the CSV column name, and
 // prefixes the row.

@@ -8,12 +8,16 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
 )
 
 const inverterSeeds = "../../testdata/calibration/inverter_seeds.csv"
@@ -179,7 +183,8 @@ func TestCalibrateBadInput(t *testing.T) {
 		args []string
 		want []string // all must appear in the one stderr line
 	}{
-		{"missing q50 column", "expert,question,realization,q05,q95\nA,s1,1,0,2\n", nil, []string{`"q50"`, string(elicit.RuleRequired)}},
+		{"no quantile column", "expert,question,realization\nA,s1,1\n", nil, []string{"header", string(elicit.RuleRequired), "no quantile column"}},
+		{"bounds but no quantile column", "expert,question,realization,lower,upper\nA,s1,1,0,2\n", nil, []string{"header", "no quantile column"}},
 		{"empty quantile", head + "A,s1,1,0,,2\n", nil, []string{"row 2", "q50", string(elicit.RuleRequired)}},
 		{"short row", head + "A,s1,1,0,1\n", nil, []string{"row 2", "q95", string(elicit.RuleRequired)}},
 		{"non-increasing", head + "A,s1,1,0,1,2\nA,s2,1,0,2,2\n", nil, []string{"row 3", "q95", string(elicit.RuleValueIncreasing)}},
@@ -520,5 +525,95 @@ func TestCalibrateBoundsCutTheRange(t *testing.T) {
 	}
 	if r := ranges["mean_days_to_repair"]; math.Abs(r[0]-0.7) > 1e-12 || math.Abs(r[1]-16.3) > 1e-12 {
 		t.Errorf("mean_days_to_repair range %v, want [0.7, 16.3]", r)
+	}
+}
+
+// TestCalibrationPageCSVScoresTheSame: the calibration page's download
+// (record.WriteCalibrationCSV) fed to parley calibrate gives the page's
+// own scores and weights (workshop.ScorePerformance), with each question's
+// bounds; also for questions asked at 10/50/90, for two experts of one
+// name and for a name a spreadsheet would run as a formula. In the invented
+// valve-wear workshop the third seed's answers span [0.05, 0.74]; widened
+// by 10% its range starts at −0.019, which the bound 0 cuts, so the file
+// scores as the page only with its bounds.
+func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
+	tenFiftyNinety := func(s *workshop.Snapshot) {
+		for i := range s.Questions {
+			if slices.Equal(s.Questions[i].Probs, []float64{0.05, 0.5, 0.95}) {
+				s.Questions[i].Probs = []float64{0.1, 0.5, 0.9}
+			}
+		}
+	}
+	sameNames := func(s *workshop.Snapshot) { s.Experts[2].Name = "a" } // A and a
+	formula := func(s *workshop.Snapshot) { s.Experts[1].Name = "=B" }
+	fixed := 0.2
+	for _, c := range []struct {
+		name   string
+		change func(*workshop.Snapshot)
+		alpha  *float64
+	}{
+		{"5/50/95", nil, nil},
+		{"fixed cut-off", nil, &fixed},
+		{"10/50/90", tenFiftyNinety, nil},
+		{"two experts of one name", sameNames, nil},
+		{"a formula-like name", formula, nil},
+	} {
+		snap := workshoptest.ValveWear(true)
+		if c.change != nil {
+			c.change(&snap)
+		}
+		set := workshop.NewCalibrationSet(snap.Questions, snap.Experts, snap.Revisions, false)
+		page, err := workshop.ScorePerformance(set, c.alpha)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		var file bytes.Buffer
+		if err := record.WriteCalibrationCSV(&file, snap.Workshop.Title, set, c.alpha); err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		if !strings.Contains(file.String(), ",lower,upper,") {
+			t.Fatalf("%s: no bound columns in\n%s", c.name, file.String())
+		}
+		args := []string{"calibrate", "--input", "-", "--format", "json"}
+		if c.alpha != nil {
+			args = append(args, "--alpha", strconv.FormatFloat(*c.alpha, 'g', -1, 64))
+		}
+		code, out, errOut := runCLI(t, file.String(), args...)
+		if code != 0 {
+			t.Fatalf("%s: exit %d: %s\n%s", c.name, code, errOut, file.String())
+		}
+		var got calibrateJSON
+		decodeJSON(t, out, &got)
+		if len(got.Experts) != len(page.Experts) {
+			t.Fatalf("%s: %d experts from the file, %d on the page", c.name, len(got.Experts), len(page.Experts))
+		}
+		if *got.Alpha != page.Alpha {
+			t.Errorf("%s: alpha %v from the file, %v on the page", c.name, *got.Alpha, page.Alpha)
+		}
+		// The command sorts experts by name; match them by the page's
+		// order of weights, which is the same classical model's.
+		byName := map[string]int{}
+		for i, e := range got.Experts {
+			byName[e.Expert] = i
+		}
+		for _, e := range page.Experts {
+			name := e.Name
+			if c.name == "two experts of one name" && strings.EqualFold(e.Name, "a") {
+				name = fmt.Sprintf("%s (expert %d)", e.Name, e.ExpertID)
+			}
+			if c.name == "a formula-like name" && e.Name == "=B" {
+				name = "'=B"
+			}
+			i, ok := byName[name]
+			if !ok {
+				t.Errorf("%s: %q not in the command's output %v", c.name, name, byName)
+				continue
+			}
+			g := got.Experts[i]
+			if *g.Calibration != e.Calibration || *g.Information != e.Information || *g.Weight != e.Weight {
+				t.Errorf("%s: %s scores C=%v I=%v w=%v from the file, C=%v I=%v w=%v on the page",
+					c.name, name, *g.Calibration, *g.Information, *g.Weight, e.Calibration, e.Information, e.Weight)
+			}
+		}
 	}
 }
