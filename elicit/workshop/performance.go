@@ -302,12 +302,15 @@ func (p Performance) matches(w Weights) bool {
 }
 
 // PerformanceInForce scores set and, when the workshop's weights w are
-// performance weights, finds the smallest cut-off that reproduces them:
-// weights change only where α passes an expert's calibration score, so
-// the candidates are 0 and those scores, and any α the facilitator fixed
-// gives the weights of one of them. Without such weights, or when the
-// answers have changed since they were set, the cut-off is the optimised
-// one and InForce is false.
+// performance weights, finds the cut-off that reproduces them. When their
+// basis says the facilitator fixed a cut-off and it still gives these
+// weights, it is that cut-off as typed (a fixed 0.03 below every score
+// stays 0.03, not the 0 that gives the same weights). Otherwise it is the
+// smallest that does: weights change only where α passes an expert's
+// calibration score, so the candidates are 0 and those scores, and any α
+// the facilitator fixed gives the weights of one of them. Without such
+// weights, or when the answers have changed since they were set, the
+// cut-off is the optimised one and InForce is false.
 func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 	opt, err := ScorePerformance(set, nil)
 	if err != nil {
@@ -315,6 +318,13 @@ func PerformanceInForce(set CalibrationSet, w Weights) (Performance, error) {
 	}
 	if w.Scheme != WeightsPerformance {
 		return opt, nil
+	}
+	if b := w.Basis; b != nil && b.AlphaRule == AlphaFixed {
+		a := b.Alpha
+		if p, err := ScorePerformance(set, &a); err == nil && p.matches(w) {
+			p.InForce = true
+			return p, nil
+		}
 	}
 	if opt.matches(w) {
 		opt.InForce = true

@@ -392,3 +392,55 @@ func TestRetiredQuestionsLeaveTheScores(t *testing.T) {
 		t.Fatalf("the retired question is not listed as skipped: %+v", set.Skipped)
 	}
 }
+
+// TestPerformanceInForceKeepsTheFixedCutOff: weights applied with a cut-off
+// the facilitator fixed report that cut-off as typed, while it still gives
+// them; a cut-off below every score used to be reported as 0, the smallest
+// that gives the same weights, beside a stored basis saying 0.03.
+func TestPerformanceInForceKeepsTheFixedCutOff(t *testing.T) {
+	src := workshoptest.ValveWear(true)
+	set := workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, true)
+	low := math.Inf(1)
+	opt, err := workshop.ScorePerformance(set, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range opt.Experts {
+		low = math.Min(low, e.Calibration)
+	}
+	typed := low / 2 // below every score: the same weights as α = 0
+	fixed, err := workshop.ScorePerformance(set, &typed)
+	if err != nil {
+		t.Fatal(err)
+	}
+	basis := workshop.NewWeightBasis(set, fixed)
+	w := workshop.Weights{WorkshopID: 9, Scheme: workshop.WeightsPerformance, ByExpert: fixed.WeightsByExpert(), Basis: &basis}
+	got, err := workshop.PerformanceInForce(set, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !got.InForce || got.Alpha != typed || got.AlphaRule != workshop.AlphaFixed || !sameWeights(got, fixed) {
+		t.Errorf("in force %v, α %v (%s), want %v as fixed", got.InForce, got.Alpha, got.AlphaRule, typed)
+	}
+	// A basis whose cut-off no longer gives the weights in force (they
+	// were edited, or the answers moved) falls back to the search.
+	w.ByExpert = map[int64]float64{}
+	top := 0.0
+	for _, e := range opt.Experts {
+		top = math.Max(top, e.Calibration)
+	}
+	high, err := workshop.ScorePerformance(set, &top)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for id, v := range high.WeightsByExpert() {
+		w.ByExpert[id] = v
+	}
+	got, err = workshop.PerformanceInForce(set, w)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !got.InForce || got.Alpha == typed || !sameWeights(got, high) {
+		t.Errorf("stale basis: in force %v, α %v, weights %v", got.InForce, got.Alpha, got.WeightsByExpert())
+	}
+}
