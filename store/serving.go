@@ -45,11 +45,41 @@ func (e *HeldError) Error() string {
 // LockFile is the lock file beside the database at path.
 func LockFile(path string) string { return path + ".lock" }
 
+// ManyNamesError says the database file has more than one name (hard
+// links). SQLite names a database's journal files after the name it was
+// opened by, so a server and a command opening one file by two names keep
+// two journals of one database: each misses the other's commits and the
+// file can be corrupted (SQLite's own "How To Corrupt An SQLite Database
+// File", §2.5). Nor would two servers see each other's claim.
+type ManyNamesError struct {
+	Database string
+	Links    uint64
+}
+
+func (e *ManyNamesError) Error() string {
+	return fmt.Sprintf("%s is one file with %d names (hard links); SQLite names its journal files (-wal, -shm) "+
+		"after the name a database is opened by, so two names could corrupt it: remove the other names, "+
+		"or serve a copy (parley backup --out)", e.Database, e.Links)
+}
+
 // ClaimServing claims the database at path for this process until
 // Release (or the process ends). When another process holds it, the
-// error is a *HeldError naming that process.
+// error is a *HeldError naming that process. The claim is on the file,
+// not on its name: a symbolic link is followed to the file it names, and
+// a file with several hard links is refused (*ManyNamesError), so that a
+// second server cannot start on the same file under another name.
 func ClaimServing(path string) (*ServingClaim, error) {
-	lock := LockFile(path)
+	real, err := realName(path)
+	if err != nil {
+		return nil, err
+	}
+	var st syscall.Stat_t
+	if err := syscall.Stat(real, &st); err == nil && st.Nlink > 1 {
+		return nil, &ManyNamesError{Database: path, Links: uint64(st.Nlink)}
+	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return nil, fmt.Errorf("store: %s: %w", path, err)
+	}
+	lock := LockFile(real)
 	f, err := os.OpenFile(lock, os.O_RDWR|os.O_CREATE, 0o644)
 	if err != nil {
 		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
@@ -72,6 +102,24 @@ func ClaimServing(path string) (*ServingClaim, error) {
 		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
 	}
 	return &ServingClaim{f: f}, nil
+}
+
+// realName is the name of the file at path with every symbolic link
+// resolved: the file's own when it exists, else its folder's resolved and
+// the last name kept (a server creates the file there).
+func realName(path string) (string, error) {
+	real, err := filepath.EvalSymlinks(path)
+	if err == nil {
+		return real, nil
+	}
+	if !errors.Is(err, fs.ErrNotExist) {
+		return "", fmt.Errorf("store: %s: %w", path, err)
+	}
+	dir, err := filepath.EvalSymlinks(filepath.Dir(path))
+	if err != nil {
+		return "", fmt.Errorf("store: %s: %w", path, err)
+	}
+	return filepath.Join(dir, filepath.Base(path)), nil
 }
 
 // readPID reads the holder's process id from the lock file; 0 when it

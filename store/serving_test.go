@@ -54,3 +54,53 @@ func TestCheckWritable(t *testing.T) {
 		t.Errorf("the check left files behind: %v", entries)
 	}
 }
+
+// TestClaimServingIsOnTheFile: the claim is on the database file, not on
+// the name it is given. A symbolic link to a served file (or to its
+// folder) meets the claim; a file with a second hard link is refused,
+// since SQLite would keep a journal per name. Before, a server started on
+// a link beside a running one, and through a hard link did not even see
+// the first's commits.
+func TestClaimServingIsOnTheFile(t *testing.T) {
+	dir, other := t.TempDir(), t.TempDir()
+	path := filepath.Join(dir, "parley.db")
+	if err := os.WriteFile(path, nil, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	first, err := ClaimServing(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer first.Release()
+
+	fileLink := filepath.Join(other, "link.db")
+	dirLink := filepath.Join(other, "folder")
+	for _, l := range [][2]string{{path, fileLink}, {dir, dirLink}} {
+		if err := os.Symlink(l[0], l[1]); err != nil {
+			t.Fatal(err)
+		}
+	}
+	for _, name := range []string{fileLink, filepath.Join(dirLink, "parley.db")} {
+		c, err := ClaimServing(name)
+		var held *HeldError
+		if !errors.As(err, &held) || held.PID != os.Getpid() || held.Database != name || held.LockFile != path+".lock" {
+			c.Release()
+			t.Errorf("a claim through %s: %v", name, err)
+		}
+	}
+
+	first.Release()
+	hard := filepath.Join(other, "hard.db")
+	if err := os.Link(path, hard); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{path, hard} {
+		c, err := ClaimServing(name)
+		var many *ManyNamesError
+		if !errors.As(err, &many) || many.Links != 2 || many.Database != name ||
+			!strings.Contains(err.Error(), name+" is one file with 2 names (hard links)") {
+			c.Release()
+			t.Errorf("a claim of %s, a file with two names: %v", name, err)
+		}
+	}
+}

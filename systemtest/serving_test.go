@@ -80,6 +80,30 @@ func TestOneServerPerDatabase(t *testing.T) {
 		t.Errorf("the first server stopped answering: %v", err)
 	}
 
+	// The same file by another name: a symbolic link meets the first
+	// server's claim; a second hard link is refused, since SQLite keeps a
+	// journal per name (a server through one used to start and not see
+	// the first's commits).
+	link := filepath.Join(t.TempDir(), "link.db")
+	if err := os.Symlink(dbPath, link); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr = runParley(t, -1, 20*time.Second, "serve", "--addr", freeAddr(t), "--db", link, "--no-demo")
+	if code != 1 || !strings.Contains(stderr, link+" is already being served by another Parley server (process "+pid+" holds "+dbPath+".lock)") {
+		t.Errorf("serve through a symbolic link: exit %d, stderr:\n%s", code, stderr)
+	}
+	hard := filepath.Join(filepath.Dir(dbPath), "hard.db")
+	if err := os.Link(dbPath, hard); err != nil {
+		t.Fatal(err)
+	}
+	code, _, stderr = runParley(t, -1, 20*time.Second, "serve", "--addr", freeAddr(t), "--db", hard, "--no-demo")
+	if code != 1 || !strings.Contains(stderr, hard+" is one file with 2 names (hard links)") {
+		t.Errorf("serve through a hard link: exit %d, stderr:\n%s", code, stderr)
+	}
+	if err := os.Remove(hard); err != nil {
+		t.Fatal(err)
+	}
+
 	first.kill()
 	second := startServer(t, parleyBinary(t), dbPath, freeAddr(t))
 	second.kill()
