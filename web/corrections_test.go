@@ -293,3 +293,47 @@ func TestAddExpertDuplicateAndLinkPage(t *testing.T) {
 		t.Error("the link page shows a link under another workshop's address")
 	}
 }
+
+// A round reopened after its panel was drawn: what the room view and the
+// next round's feedback show is the round as it closed the second time,
+// with the answers given while it was reopened. Before, the panel as the
+// round first closed was remembered and shown for the rest of the
+// workshop.
+func TestReopenedRoundFeedsBackItsNewAnswers(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	wp := workshopPath(ws.ID)
+	room := roomPath(ws.ID, qs[0].ID)
+	round := func(form url.Values) {
+		t.Helper()
+		if r, body := h.post(wp+"/round", form); r.StatusCode != http.StatusSeeOther {
+			t.Fatalf("%v: %d %s", form, r.StatusCode, body)
+		}
+	}
+	round(url.Values{"action": {"close"}})
+	// Three of the demo's four experts answered question 1 in round 1.
+	if _, body := h.get(room); strings.Join(legendLabels(body), ",") != "Expert A,Expert B,Expert C" {
+		t.Fatalf("room after the first close: %v", legendLabels(body))
+	}
+	round(url.Values{"action": {"reopen"}, "reopen_reason": {"Ole was still answering (invented)."}})
+	for _, l := range links {
+		if r, body := h.post(l.Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+			"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save in the reopened round: %d %s", r.StatusCode, body)
+		}
+	}
+	round(url.Values{"action": {"close"}})
+	if _, body := h.get(room); strings.Join(legendLabels(body), ",") != "Expert A,Expert B,Expert C,Expert D" {
+		t.Errorf("room after the round closed again: %v, want the four who answered", legendLabels(body))
+	}
+	round(url.Values{"action": {"open"}, "reason": {"Discussion done (invented)."}})
+	_, body := h.get(links[0].Path + "q/" + strconv.FormatInt(qs[0].ID, 10))
+	others := 0
+	for _, l := range legendLabels(body) {
+		if strings.HasPrefix(l, "Expert ") {
+			others++
+		}
+	}
+	if others != 3 {
+		t.Errorf("an expert's round-2 feedback: %v, want the three others", legendLabels(body))
+	}
+}

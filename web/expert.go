@@ -1022,16 +1022,18 @@ func (fb *feedback) reasons(except int64) []feedbackReason {
 }
 
 // feedbackKey names one question's feedback in a round: the round fed
-// back, the experts revoked when it was read, and the generation of the
-// facilitator's reason decisions. The revisions of a closed round never
-// change (saves go to the open round, and revisions are append-only), so
-// the feedback is read and pooled once per key; a revocation, a reissued
-// token lifting one, or a reason withheld or shown again gives a new key.
+// back, the experts revoked when it was read, and the generations of the
+// facilitator's reason decisions and round changes. The revisions of a
+// closed round change only if it is reopened (saves go to the open round,
+// and revisions are append-only), so the feedback is read and pooled once
+// per key; a revocation, a reissued token lifting one, a reason withheld
+// or shown again, or a round closed, opened or reopened gives a new key.
 type feedbackKey struct {
 	question int64
 	through  int
 	revoked  string
 	reasons  uint64
+	rounds   uint64
 }
 
 // feedbackFor returns the panel fed back on sc's question in sc's round,
@@ -1051,7 +1053,7 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	if err != nil {
 		return nil, err
 	}
-	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load()}
+	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load(), rounds: s.roundGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
 		// Other requests may be waiting on this computation: an expert
 		// closing their page must not fail the others' panels.

@@ -43,6 +43,7 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	s.roundGen.Add(1)
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)
 }
 
@@ -72,5 +73,6 @@ func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws workshop
 		s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RoundForm: f})
 		return
 	}
+	s.roundGen.Add(1)
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)
 }
