@@ -157,16 +157,31 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 		case <-s.live.done:
 			return
 		case <-tick.C:
+			if !s.stillSignedIn(r) {
+				return
+			}
 			if _, err := fmt.Fprint(w, ": still here\n\n"); err != nil || rc.Flush() != nil {
 				return
 			}
 		case ev := <-ch:
+			if !s.stillSignedIn(r) {
+				return
+			}
 			b, _ := json.Marshal(ev)
 			if _, err := fmt.Fprintf(w, "event: change\ndata: %s\n\n", b); err != nil || rc.Flush() != nil {
 				return
 			}
 		}
 	}
+}
+
+// stillSignedIn reports whether the session a stream was opened with is
+// still valid. A stream outlives the request that checked it; without
+// this, a browser signed out (or every browser, by facilitator-reset, for
+// a session that may have leaked) went on hearing of every change.
+func (s *Server) stillSignedIn(r *http.Request) bool {
+	ok, err := s.signedIn(r)
+	return ok && err == nil
 }
 
 // requireFacilitatorStream lets only a signed-in facilitator open a

@@ -208,3 +208,33 @@ func TestShutdownEndsStreams(t *testing.T) {
 		t.Fatal("the stream did not end at shutdown")
 	}
 }
+
+// A stream ends with its session: signed out everywhere (facilitator-reset,
+// for a session that may have leaked), the next change ends the stream
+// instead of reaching it. Before, a stream opened with the session went on
+// hearing of every save and decision.
+func TestEventStreamEndsWithItsSession(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	res, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("events: %d", res.StatusCode)
+	}
+	if _, err := ResetFacilitatorSecret(context.Background(), h.db); err != nil {
+		t.Fatal(err)
+	}
+	if r, body := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	select {
+	case ev, ok := <-st.events:
+		if ok {
+			t.Fatalf("a signed-out stream was sent %+v", ev)
+		}
+	case <-time.After(2 * time.Second):
+		t.Fatal("the signed-out stream is still open 2 s after a change")
+	}
+	if n := h.srv.live.streams(); n != 0 {
+		t.Errorf("%d streams still counted", n)
+	}
+}
