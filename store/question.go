@@ -98,10 +98,11 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]worksho
 
 // SetTrueValue stores a calibration question's true value; with reveal it
 // also makes the value visible to experts and records EventTruthRevealed.
-// A revealed value stays revealed. The first reveal freezes the answers:
-// it stores its time and the question's last revision id, and from then
-// on SaveRevision refuses the question (workshop.ErrAnswersFrozen). Saves
-// and the reveal go through the one writer, so no save slips in between.
+// A revealed value stays revealed, and a change to it is a reveal. The
+// first reveal freezes the answers: it stores its time and the question's
+// last revision id, and from then on SaveRevision refuses the question
+// (workshop.ErrAnswersFrozen). Saves and the reveal go through the one
+// writer, so no save slips in between.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
 	if math.IsNaN(value) || math.IsInf(value, 0) {
 		return &elicit.InputError{Field: "true_value", Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", value)}
@@ -123,9 +124,13 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			return &elicit.InputError{Field: "true_value", Rule: elicit.RuleValueInBounds,
 				Detail: fmt.Sprintf("%v not inside [%v, %v]", value, q.Lower, q.Upper)}
 		}
-		revealed := q.Revealed || reveal
+		// A value the experts have seen is changed only in the open: as a
+		// reveal, whose event carries the new value. A caller that read the
+		// question before its reveal asks to store the value hidden, which
+		// would record a change of the scored value without the value.
+		reveal = reveal || q.Revealed
 		if _, err := tx.ExecContext(ctx, `UPDATE questions SET true_value = ?, revealed = ? WHERE id = ?`,
-			value, boolInt(revealed), questionID); err != nil {
+			value, boolInt(reveal), questionID); err != nil {
 			return fmt.Errorf("store: set true value: %w", err)
 		}
 		if !reveal {

@@ -98,3 +98,28 @@ func TestMigrationFreezesEarlierReveals(t *testing.T) {
 		t.Fatalf("scored %+v, want the answer standing at the reveal (median 0.2)", set.Assessments)
 	}
 }
+
+// A revealed true value changed without asking for a reveal (a page read
+// before the reveal) is recorded as a reveal with the new value: the
+// event of a change to a scored value says what it became. It was a
+// truth_entered event without the value.
+func TestChangingARevealedValueIsAReveal(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := p.qs[1]
+	must(t, db.SetTrueValue(ctx, q.ID, 0.3, true, "shown to the room"))
+	must(t, db.SetTrueValue(ctx, q.ID, 0.35, false, "a second look"))
+	got, _ := db.Question(ctx, q.ID)
+	if !got.Revealed || got.TrueValue == nil || *got.TrueValue != 0.35 {
+		t.Fatalf("after the change: revealed %v, value %v", got.Revealed, got.TrueValue)
+	}
+	evs, err := db.Events(ctx, p.w.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := evs[len(evs)-1]
+	if last.Kind != workshop.EventTruthRevealed || last.Detail != `{"true_value":0.35}` || last.Reason != "a second look" {
+		t.Errorf("the change's event: %+v", last)
+	}
+}
