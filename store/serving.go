@@ -164,8 +164,15 @@ func (e *NotWritableError) Unwrap() error { return e.Err }
 // A *NotWritableError says exactly what is wrong: a missing folder, a
 // read-only filesystem, a read-only file or folder, or a full disk.
 // Without it a read-only database went unnoticed until the first save.
+//
+// A symbolic link is followed: SQLite keeps the journal beside the file
+// the link names, so that file's folder is the one checked.
 func CheckWritable(path string) error {
-	dir := filepath.Dir(path)
+	real, err := realName(path)
+	if err != nil {
+		real = path // a folder that cannot be reached is said below
+	}
+	dir := filepath.Dir(real)
 	fi, err := os.Stat(dir)
 	switch {
 	case errors.Is(err, fs.ErrNotExist):
@@ -179,18 +186,18 @@ func CheckWritable(path string) error {
 	probe, err := os.CreateTemp(dir, ".parley-write-check-*")
 	if err != nil {
 		return &NotWritableError{Path: path, Err: err, Problem: "the folder " + dir + " (where SQLite keeps the database's journal, " +
-			filepath.Base(path) + "-wal and -shm) " + whyNot(err, dir)}
+			filepath.Base(real) + "-wal and -shm) " + whyNot(err, dir)}
 	}
 	probe.Close()
 	os.Remove(probe.Name())
-	for _, name := range []string{path, path + "-wal", path + "-shm"} {
+	for _, name := range []string{real, real + "-wal", real + "-shm"} {
 		f, err := os.OpenFile(name, os.O_RDWR, 0)
 		if errors.Is(err, fs.ErrNotExist) {
 			continue
 		}
 		if err != nil {
 			what := "the file"
-			if name != path {
+			if name != real {
 				what = "its journal file " + name
 			}
 			return &NotWritableError{Path: path, Err: err, Problem: what + " " + whyNot(err, name)}

@@ -183,6 +183,20 @@ func TestStartupSaysWhyTheDatabaseCannotBeWritten(t *testing.T) {
 		t.Errorf("read-only folder: exit %d, %q", code, msg)
 	}
 
+	// A link to a database in a read-only folder, from a writable one:
+	// SQLite keeps the journal beside the file the link names, so that
+	// folder is the one that counts (it passed the check, and the start
+	// failed with SQLite's "attempt to write a readonly database").
+	linkDir, _ := newDB("link-to-read-only-folder")
+	link := filepath.Join(linkDir, "link.db")
+	if err := os.Symlink(roDirDB, link); err != nil {
+		t.Fatal(err)
+	}
+	if code, msg := serve(link); code != 1 || !strings.Contains(msg, "cannot write "+link+": the folder "+roDir+
+		" (where SQLite keeps the database's journal, parley.db-wal and -shm) is read-only for this user (dr-xr-xr-x") {
+		t.Errorf("a link to a database in a read-only folder: exit %d, %q", code, msg)
+	}
+
 	// A read-only filesystem: a small tmpfs, written, then remounted
 	// read-only. Root may write any file, but not on a read-only mount.
 	mnt := mountTmpfs(t, "1m")
