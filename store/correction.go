@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"slices"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -26,7 +27,8 @@ func (db *DB) CountAnswers(ctx context.Context, questionID int64) (int, error) {
 }
 
 // questionChange is an EventQuestionEdited's detail: the changed fields
-// as they were and as they became.
+// as they were and as they became (a true value not yet revealed is
+// named in Fields only).
 type questionChange struct {
 	Fields []string        `json:"fields"`
 	Before json.RawMessage `json:"before"`
@@ -73,7 +75,14 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 			return fmt.Errorf("store: edit question: %w", err)
 		}
 		fields := old.Corrected(q)
-		detail, err := json.Marshal(questionChange{Fields: fields, Before: pick(old, fields), After: pick(q, fields)})
+		// A true value not yet revealed stays out of the record, as it
+		// does when entered on its own (EventTruthEntered): the event
+		// names the field but not its values.
+		shown := fields
+		if !old.Revealed {
+			shown = slices.DeleteFunc(slices.Clone(fields), func(f string) bool { return f == "true_value" })
+		}
+		detail, err := json.Marshal(questionChange{Fields: fields, Before: pick(old, shown), After: pick(q, shown)})
 		if err != nil {
 			return fmt.Errorf("store: edit question: %w", err)
 		}

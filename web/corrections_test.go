@@ -337,3 +337,45 @@ func TestReopenedRoundFeedsBackItsNewAnswers(t *testing.T) {
 		t.Errorf("an expert's round-2 feedback: %v, want the three others", legendLabels(body))
 	}
 }
+
+// A hidden true value corrected with its question (before any answer)
+// stays out of the record: the decision log says that it changed, and
+// neither value reaches the log, the report or the export until the
+// reveal, as for a true value entered on its own. The correction's event
+// carried both values, and with it the log, the report and the export.
+func TestCorrectedHiddenTrueValueStaysHidden(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Hidden correction (invented)")
+	wp := workshopPath(ws.ID)
+	form := url.Values{"wording": {"What share of the (invented) 2024 batch failed?"}, "quantity": {"failure share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"},
+		"calibration": {"on"}, "true_value": {"0.4321"}}
+	if r, body := h.post(wp+"/questions", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add question: %d %s", r.StatusCode, body)
+	}
+	qs, _ := h.db.Questions(context.Background(), ws.ID)
+	form.Set("true_value", "0.5678")
+	form.Set("wording", "What share of the (invented) 2024 batch failed in year one?")
+	form.Set("reason", "The audit's figure was mistyped (invented).")
+	if r, body := h.post(questionPath(ws.ID, qs[0].ID)+"/edit", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("correction: %d %s", r.StatusCode, body)
+	}
+	if got, _ := h.db.Question(context.Background(), qs[0].ID); got.TrueValue == nil || *got.TrueValue != 0.5678 {
+		t.Fatalf("the corrected true value was not stored: %v", got.TrueValue)
+	}
+	ev := lastEvent(t, h, ws.ID)
+	if ev.Kind != workshop.EventQuestionEdited || !strings.Contains(ev.Detail, `"fields":["wording","true_value"]`) || ev.Reason == "" {
+		t.Errorf("correction event %+v", ev)
+	}
+	for _, page := range []string{"/log", "/report", "/export.json", "/export.csv"} {
+		_, body := h.get(wp + page)
+		if strings.Contains(body, "4321") || strings.Contains(body, "5678") {
+			t.Errorf("%s shows the hidden true value", page)
+		}
+	}
+	if _, body := h.get(wp + "/log"); !strings.Contains(body, "true value changed, and kept hidden until it is revealed") ||
+		!strings.Contains(body, "in year one") {
+		t.Error("the decision log does not say the hidden true value changed, beside the wording's change")
+	}
+}

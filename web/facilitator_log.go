@@ -331,7 +331,13 @@ func correction(d eventDetail) string {
 	}
 	parts := make([]string, 0, len(d.Fields))
 	for _, f := range d.Fields {
-		parts = append(parts, fieldWord(f)+" was "+rawText(d.Before[f])+", now "+rawText(d.After[f]))
+		before, ok := d.Before[f]
+		if _, after := d.After[f]; !ok && !after {
+			// A true value not yet revealed: the store kept its values out.
+			parts = append(parts, fieldWord(f)+" changed, and kept hidden until it is revealed")
+			continue
+		}
+		parts = append(parts, fieldWord(f)+" was "+rawText(before)+", now "+rawText(d.After[f]))
 	}
 	return strings.Join(parts, "; ") + "."
 }
