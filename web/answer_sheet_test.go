@@ -249,12 +249,52 @@ func TestSheetUploadPreviewThenSave(t *testing.T) {
 			t.Errorf("row %d: previewed Beta(%s), saved Beta(%s)", i, previewed[i][1], got)
 		}
 	}
-	// The key is spent.
-	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusUnprocessableEntity {
+	// The key is spent: confirming again saves nothing and goes where
+	// the first confirmation went (not "upload it again", which would).
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
 		t.Errorf("confirming twice: %d", r.StatusCode)
 	}
 	if len(g.revisions(t)) != 5 {
 		t.Fatal("a second confirmation saved again")
+	}
+}
+
+// A confirmation sent several times at once (a double click on a slow
+// save, a replayed request) saves the sheet once. Each copy used to read
+// the kept sheet before the first had saved it, and each saved every row.
+func TestSheetConfirmedTwiceAtOnceSavesOnce(t *testing.T) {
+	g := newSheetRig(t)
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {goodSheet}, "channel": {"paper_form"}})
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if r.StatusCode != http.StatusOK || key == nil {
+		t.Fatalf("preview: %d, key %v", r.StatusCode, key)
+	}
+	const copies = 8
+	start := make(chan struct{})
+	codes := make(chan int, copies)
+	for range copies {
+		go func() {
+			<-start
+			req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID)+"/confirm", strings.NewReader(url.Values{"key": {key[1]}}.Encode()))
+			req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+			req.Header.Set("Origin", g.h.ts.URL)
+			res, err := g.h.client.Do(req)
+			if err != nil {
+				codes <- 0
+				return
+			}
+			res.Body.Close()
+			codes <- res.StatusCode
+		}()
+	}
+	close(start)
+	for range copies {
+		if c := <-codes; c != http.StatusSeeOther {
+			t.Errorf("a confirmation answered %d", c)
+		}
+	}
+	if n := len(g.revisions(t)); n != 5 {
+		t.Fatalf("%d revisions saved by %d copies of one confirmation, want the sheet's 5", n, copies)
 	}
 }
 

@@ -162,8 +162,17 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	key := f.Value("key")
-	sh, found := s.sheets.get(key, s.now())
-	if !found || sh.workshop != ws.ID {
+	sh, found, taken := s.sheets.take(key, s.now())
+	if taken {
+		// Sent twice: the first is saving it, or has; nothing more is.
+		http.Redirect(w, r, workshopPath(ws.ID)+"#answered", http.StatusSeeOther)
+		return
+	}
+	if found && sh.workshop != ws.ID {
+		s.sheets.untake(key)
+		found = false
+	}
+	if !found {
 		f.set("file", "the sheet waited too long for its confirmation (or the server restarted); upload it again")
 		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
 		return
@@ -173,6 +182,7 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel)
 	}
 	if err != nil {
+		s.sheets.untake(key)
 		switch {
 		case s.notSaved(r, f, err):
 		case !isInputError(err):
@@ -184,7 +194,6 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
 		return
 	}
-	s.sheets.drop(key)
 	http.Redirect(w, r, workshopPath(ws.ID)+"#answered", http.StatusSeeOther)
 }
 

@@ -20,6 +20,7 @@ type kept[T any] struct {
 type keptItem[T any] struct {
 	v       T
 	expires time.Time
+	taken   bool // claimed by take
 }
 
 func newKept[T any](life time.Duration) *kept[T] {
@@ -40,7 +41,7 @@ func (k *kept[T]) keep(v T, now time.Time) (string, error) {
 			delete(k.items, old)
 		}
 	}
-	k.items[key] = keptItem[T]{v, now.Add(k.life)}
+	k.items[key] = keptItem[T]{v: v, expires: now.Add(k.life)}
 	return key, nil
 }
 
@@ -56,9 +57,33 @@ func (k *kept[T]) get(key string, now time.Time) (T, bool) {
 	return it.v, true
 }
 
-// drop forgets key.
-func (k *kept[T]) drop(key string) {
+// take claims the value kept under key for the one request that uses it
+// up (an answer sheet's confirmation). The first caller gets it (ok); a
+// caller while it is claimed, or after it was used, gets taken instead,
+// so a confirmation sent twice (a double click, a replay) is used once.
+// The value stays claimed until its time, or until untake.
+func (k *kept[T]) take(key string, now time.Time) (v T, ok, taken bool) {
 	k.mu.Lock()
 	defer k.mu.Unlock()
-	delete(k.items, key)
+	it, found := k.items[key]
+	if !found || now.After(it.expires) {
+		return v, false, false
+	}
+	if it.taken {
+		return v, false, true
+	}
+	it.taken = true
+	k.items[key] = it
+	return it.v, true, false
+}
+
+// untake gives back a value claimed by take, for a use that failed and
+// may be tried again.
+func (k *kept[T]) untake(key string) {
+	k.mu.Lock()
+	defer k.mu.Unlock()
+	if it, ok := k.items[key]; ok {
+		it.taken = false
+		k.items[key] = it
+	}
 }
