@@ -248,12 +248,15 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 				return row, err
 			}
 		}
-		// In percent, as on the expert's form, with or without its sign.
-		conf, err := input.Number("confidence", strings.TrimSuffix(strings.TrimSpace(cell("confidence")), "%"))
-		if err != nil {
+		// In percent, by the expert's form's own reading: with or without
+		// its sign, and 0.8 refused as almost surely meaning 80%.
+		if a.Confidence, err = parseConfidence(cell("confidence")); err != nil {
+			var ie *elicit.InputError
+			if errors.As(err, &ie) && ie.Rule == ruleConfidencePercent && ie.Detail != "" {
+				return row, sheetErr(line, "confidence", ie.Rule, "did you mean %s, for %s%%?", ie.Detail, ie.Detail)
+			}
 			return row, underColumn(line, "confidence", err)
 		}
-		a.Confidence = conf / 100
 	case workshop.FormatChips:
 		a.Counts = make([]int, len(mine))
 		for i, c := range mine {

@@ -162,6 +162,9 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// columns: its tails belong to the confidence, its values to
 		// lowest, best and highest (not to the columns in sheet order).
 		{"a confidence leaving no tail", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,99.9999999999999,\n", "row 3, column confidence", elicit.RuleCentralTails},
+		// The confidence is read as the form reads it: 0.8 almost surely
+		// means 80%, and was taken as 0.8% (a U-shaped fit, saved).
+		{"a confidence typed as a fraction", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,0.8,\n", "row 3, column confidence", ruleConfidencePercent},
 		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
