@@ -45,6 +45,8 @@ const (
 	ruleSheetQuest   elicit.Rule = "names no question of this workshop that takes answers"
 	ruleSheetEmpty   elicit.Rule = "the sheet has no rows"
 	ruleSheetChanged elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
+	ruleSheetExtra   elicit.Rule = "is beyond the columns the header names"
+	ruleSheetTwo     elicit.Rule = "names more than one active expert: name each by id:N"
 )
 
 // MaxSheetRows bounds a sheet: a panel of 200 experts answering 50
@@ -121,7 +123,9 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	if len(b) > maxSheetBytes {
 		return nil, &elicit.InputError{Field: "sheet", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (1 MiB)", maxSheetBytes)}
 	}
-	cr := csv.NewReader(bytes.NewReader(b))
+	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
+	// would make a quoted first header cell a bare quote.
+	cr := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	header, err := cr.Read()
@@ -139,7 +143,7 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	}
 	col := map[string]int{}
 	for i, h := range header {
-		h = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+		h = strings.ToLower(strings.TrimSpace(h))
 		if !known[h] {
 			return nil, sheetErr(1, shownCell(h), ruleSheetHeader, "no question of this workshop has a column %s", shownCell(h))
 		}
@@ -167,6 +171,23 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 				line = pe.Line
 			}
 			return nil, sheetErr(line, "?", ruleSheetHeader, "not CSV: %v", err)
+		}
+		// A row of empty cells (a spreadsheet writes one for every row
+		// that was ever touched) is no row.
+		blank := true
+		for i, c := range rec {
+			if strings.TrimSpace(c) == "" {
+				continue
+			}
+			if i >= len(header) {
+				// Never dropped in silence: a reason without a
+				// column, or a decimal comma that split a value.
+				return nil, sheetErr(line, strconv.Itoa(i+1), ruleSheetExtra, "the header names %d columns; this row has %s in column %d", len(header), shownCell(c), i+1)
+			}
+			blank = false
+		}
+		if blank {
+			continue
 		}
 		if len(rows) == maxSheetRows {
 			return nil, sheetErr(line, "?", elicit.RuleCountRange, "at most %d rows", maxSheetRows)
@@ -199,8 +220,13 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 func readSheetRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (sheetRow, error) {
 	row := sheetRow{Line: line}
 	var ok bool
-	if row.Expert, ok = findExpert(cell("expert"), experts); !ok {
-		return row, sheetErr(line, "expert", ruleSheetExpert, "%s", shownCell(cell("expert")))
+	var n int
+	if row.Expert, n = findExpert(cell("expert"), experts); n != 1 {
+		rule := ruleSheetExpert
+		if n > 1 {
+			rule = ruleSheetTwo
+		}
+		return row, sheetErr(line, "expert", rule, "%s", shownCell(cell("expert")))
 	}
 	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
 		return row, sheetErr(line, "question", ruleSheetQuest, "%s", shownCell(cell("question")))
@@ -324,15 +350,16 @@ func fieldIndex(field string) (int, bool) {
 }
 
 // findExpert finds an active expert by name (case and spaces folded, as
-// sameName) or by id:N.
-func findExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) {
+// sameName) or by id:N, and says how many it found: two experts of one
+// name must be named by id.
+func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 	if id, ok := sheetID(s); ok {
 		for _, e := range experts {
 			if e.ID == id && !e.Revoked {
-				return e, true
+				return e, 1
 			}
 		}
-		return workshop.Expert{}, false
+		return workshop.Expert{}, 0
 	}
 	var found workshop.Expert
 	n := 0
@@ -341,7 +368,7 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) {
 			found, n = e, n+1
 		}
 	}
-	return found, n == 1 // two experts of one name must be named by id
+	return found, n
 }
 
 // findQuestion finds a question that takes answers by its number (3 or

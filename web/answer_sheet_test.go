@@ -129,6 +129,54 @@ func TestReadAnswerSheet(t *testing.T) {
 	}
 }
 
+// A sheet as spreadsheets write it reads as the plain one: a byte order
+// mark before a quoted header (which made the first cell a bare quote),
+// CRLF line ends, quoted commas, and rows of empty cells after the last
+// answer (which were refused as naming no expert).
+func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "\ufeff\"expert\",\"question\",\"q05\",\"q50\",\"q95\",\"reason\"\r\n" +
+		"\"Ada Quell\",\"Q1\",\"2%\",\"6%\",\"15%\",\"Logs, 2019–2024 (invented)\"\r\n" +
+		",,,,,\r\n" +
+		"\"Bruno Ferrante\",\"Q1\",\"0.01\",\"0.03\",\"0.08\",\"\"\r\n" +
+		",,,,,\r\n,,, ,,\r\n"
+	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(rows) != 2 || rows[0].Line != 2 || rows[1].Line != 4 || rows[1].Expert.Name != "Bruno Ferrante" {
+		t.Fatalf("rows %+v", rows)
+	}
+	if a := rows[0].Answer; !a.Percent || a.Values[1] != 0.06 || rows[0].Reason != "Logs, 2019–2024 (invented)" {
+		t.Errorf("first row read as %+v, reason %q", a, rows[0].Reason)
+	}
+	// Only empty rows: no rows.
+	var ie *elicit.InputError
+	if _, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != ruleSheetEmpty {
+		t.Errorf("a sheet of empty rows: %v", err)
+	}
+}
+
+// Two active experts of one name must be named by id, and the message
+// says so (it said the name was on nobody's panel).
+func TestAnswerSheetNamesTwoExpertsOfOneName(t *testing.T) {
+	g := newSheetRig(t)
+	twin := workshop.Expert{WorkshopID: g.ws.ID, Name: "Ada  quell"}
+	if err := g.h.db.AddExpert(context.Background(), &twin, []byte("sheet-twin")); err != nil {
+		t.Fatal(err)
+	}
+	experts := append(append([]workshop.Expert(nil), g.experts...), twin)
+	_, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, experts)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "row 2, column expert" || ie.Rule != ruleSheetTwo {
+		t.Fatalf("got %v, want row 2, column expert: %s", err, ruleSheetTwo)
+	}
+	rows, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nid:"+strconv.FormatInt(twin.ID, 10)+",Q1,0.02,0.06,0.15\n"), g.qs, experts)
+	if err != nil || rows[0].Expert.ID != twin.ID {
+		t.Errorf("by id: %+v %v", rows, err)
+	}
+}
+
 // Columns are named by the probabilities asked (the tertiles' q33 and
 // q67 at two digits, as people write them).
 func TestQuantileColumnNames(t *testing.T) {
@@ -167,6 +215,9 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"a confidence typed as a fraction", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,0.8,\n", "row 3, column confidence", ruleConfidencePercent},
 		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
+		// A cell beyond the header's columns was dropped in silence: a
+		// reason without its column, or a value split by a decimal comma.
+		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", ruleSheetExtra},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", ruleSheetQuest},
 	} {
