@@ -446,3 +446,28 @@ func TestSheetUploadOverItsLimit(t *testing.T) {
 		t.Fatalf("refused uploads saved %d revisions", n)
 	}
 }
+
+// A sheet is saved whole or not at all: when the store refuses a later
+// row (its expert revoked after the sheet was read), the rows before it
+// are not kept either, and the refusal names the row. Saving the rows one
+// transaction each kept the first.
+func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	rows, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\n"+
+		"Ada Quell,Q1,0.02,0.06,0.15\nChiara Osei,Q1,0.01,0.03,0.08\nBruno Ferrante,Q1,0.03,0.07,0.2\n"), g.qs, g.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := g.h.db.RevokeExpert(ctx, g.experts[1].ID, "invented: left the panel"); err != nil {
+		t.Fatal(err)
+	}
+	err = SaveSheet(ctx, g.h.db, g.ws, rows, workshop.ChannelFile)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "row 4, column expert" || ie.Rule != ruleSheetExpert {
+		t.Fatalf("got %v, want row 4, column expert: %s", err, ruleSheetExpert)
+	}
+	if revs := g.revisions(t); len(revs) != 0 {
+		t.Fatalf("%d revisions kept from a refused sheet: %+v", len(revs), revs)
+	}
+}
