@@ -82,6 +82,7 @@ func TestImportAnswersRefusals(t *testing.T) {
 		{"unknown expert", []string{"--in", writeSheet(t, good+"Nobody,Q2,0.1,0.3,0.6\n")}, "row 3, column expert"},
 		{"broken rule", []string{"--in", writeSheet(t, good+"Jomo,Q1,0.3,0.2,0.6\n")}, "row 3, column q50: values must strictly increase"},
 		{"wrong column", []string{"--in", writeSheet(t, "expert,question,q05,q50,q95,lowest\nInes,Q2,0.1,0.3,0.6,0.2\n")}, `row 1, column "lowest"`},
+		{"a value beyond the header", []string{"--in", writeSheet(t, good+"Jomo,Q1,0.1,0.3,0.6,from the logs\n")}, "row 3, column 6: is beyond the columns the header names"},
 		{"no sheet", []string{}, "--in"},
 		{"bad channel", []string{"--in", writeSheet(t, good), "--channel", "carrier-pigeon"}, "--channel"},
 		// The command read any file whole (a 200 MB one took 1.9 GB and
@@ -113,6 +114,10 @@ func TestImportAnswersRefusals(t *testing.T) {
 	db.Close()
 	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, good)); code != 2 || !strings.Contains(errOut, "row 2, column question") {
 		t.Errorf("closed round: %d %q", code, errOut)
+	}
+	// So does a dry run, which must not promise what the save would refuse.
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, good), "--dry-run"); code != 2 || !strings.Contains(errOut, "row 2, column question") || strings.Contains(out, "would save") {
+		t.Errorf("dry run in a closed round: %d %q %q", code, out, errOut)
 	}
 	if n := len(revisionsIn(t, path, ws)); n != before {
 		t.Fatalf("refused sheets wrote %d revisions", n-before)
