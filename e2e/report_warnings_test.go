@@ -17,7 +17,8 @@ import (
 // TestReportWarningsReadOnEveryScreen: the report's fit warnings, grouped
 // by kind (each kind's meaning once, then each expert's particulars), fit
 // a phone and a projector: the page does not scroll sideways and no cell
-// of the tail misses' table runs past the screen's edge. Screenshots of
+// of the tail misses' table runs past the screen's edge; a revoked
+// expert's row carries its mark. Screenshots of
 // the question's section at 390 and 1366 px go to $PARLEY_SCREENSHOTS.
 // The panel's answers are invented.
 func TestReportWarningsReadOnEveryScreen(t *testing.T) {
@@ -53,6 +54,11 @@ func TestReportWarningsReadOnEveryScreen(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
+	// The last, revoked after answering, stays in the table of final
+	// judgements, marked as out of the pool.
+	if err := site.DB.RevokeExpert(ctx, es[len(answers)-1].ID, "invented: left the panel"); err != nil {
+		t.Fatal(err)
+	}
 	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
 	section := "#report-q" + strconv.FormatInt(q.ID, 10)
 	br := startBrowser(t)
@@ -62,7 +68,7 @@ func TestReportWarningsReadOnEveryScreen(t *testing.T) {
 	for _, width := range []int64{390, 1366} {
 		fac.viewport(width, 900, width == 390)
 		fac.open(wsURL + "/report")
-		fac.sees(fmt.Sprintf("report at %d px", width), "Outer value missed: 6 of 9 experts", "Near-certainty: 1 of 9 experts", "Poor fit: 1 of 9 experts", "J-shaped fit: 1 of 9 experts")
+		fac.sees(fmt.Sprintf("report at %d px", width), "Outer value missed: 6 of 9 experts", "Near-certainty: 1 of 9 experts", "Poor fit: 1 of 9 experts", "J-shaped fit: 1 of 9 experts", "revoked, not pooled")
 		fits(t, fac, "report", width)
 		if cut := eval[[]string](fac, "tail misses' cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-tails td, .warning-group")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 			t.Errorf("at %d px the warnings run past the screen: %q", width, cut)

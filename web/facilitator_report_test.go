@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"encoding/csv"
 	"net/http"
 	"net/url"
@@ -9,6 +10,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The record opens with every target question's agreed prior in one
@@ -99,5 +101,41 @@ func TestPriorsCSVDownload(t *testing.T) {
 		if _, b := h.get(page); !strings.Contains(b, `href="`+workshopPath(ws.ID)+`/priors.csv"`) {
 			t.Errorf("%s does not link the priors CSV", page)
 		}
+	}
+}
+
+// A revoked expert's judgement stays in the report's table of final
+// judgements, marked as the panel marks it, since the pool beside it
+// leaves them out ("33.3% each for the 3 experts pooled" under four rows).
+func TestReportMarksARevokedExpertNotPooled(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	var gone workshop.Expert
+	for _, e := range es {
+		if e.Name == "Ole Brandt" { // answered Q1 in the invented demo
+			gone = e
+		}
+	}
+	if err := h.db.RevokeExpert(context.Background(), gone.ID, "invented: left the panel"); err != nil {
+		t.Fatal(err)
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	// Q1's table is the report's first.
+	table := report[strings.Index(report, "Each expert's final judgement"):]
+	table = table[:strings.Index(table, "</table>")]
+	rows := strings.Split(table, "<tr")
+	marked := 0
+	for _, row := range rows {
+		if strings.Contains(row, "revoked, not pooled") {
+			marked++
+			if !strings.Contains(row, gone.Name) {
+				t.Errorf("the mark is on another expert's row: %s", row)
+			}
+		}
+	}
+	if marked != 1 {
+		t.Errorf("%d rows marked revoked, want 1 (%s's)", marked, gone.Name)
+	}
+	if !strings.Contains(report, "for the 3 experts pooled") {
+		t.Error("the pool should name 3 experts pooled")
 	}
 }
