@@ -32,7 +32,7 @@ import (
 //
 // A row fills only the columns of its question's format. Every cell goes
 // through the rules of the expert's own form, so the sheet is refused as
-// a whole, naming the row (its line in the file), the column and the rule,
+// a whole, naming the row (as a spreadsheet numbers it), the column and the rule,
 // when any row breaks one.
 
 // Rules of answer sheets.
@@ -55,7 +55,7 @@ const maxSheetRows = 10000
 
 // SheetRow is one row of a sheet, read and fitted.
 type sheetRow struct {
-	Line     int // the row's line in the file
+	Line     int // the row as a spreadsheet numbers it, the header row 1
 	Expert   workshop.Expert
 	Question workshop.Question
 	Answer   workshop.Answer
@@ -159,19 +159,31 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	}
 	var rows []sheetRow
 	seen := map[[2]int64]int{}
+	// A spreadsheet numbers rows, not the file's lines: a line break in a
+	// quoted cell (a reason in paragraphs) starts no row, so the rows
+	// below it are named by their line less the breaks above them.
+	breaks := 0
+	countBreaks := func(rec []string) {
+		for _, c := range rec {
+			breaks += strings.Count(c, "\n")
+		}
+	}
+	countBreaks(header)
 	for {
 		rec, err := cr.Read()
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		line, _ := cr.FieldPos(0)
+		start, _ := cr.FieldPos(0)
 		if err != nil {
 			var pe *csv.ParseError
 			if errors.As(err, &pe) {
-				line = pe.Line
+				start = pe.StartLine
 			}
-			return nil, sheetErr(line, "?", ruleSheetHeader, "not CSV: %v", err)
+			return nil, sheetErr(start-breaks, "?", ruleSheetHeader, "not CSV: %v", err)
 		}
+		line := start - breaks
+		countBreaks(rec)
 		// A row of empty cells (a spreadsheet writes one for every row
 		// that was ever touched) is no row.
 		blank := true

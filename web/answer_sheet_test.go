@@ -157,6 +157,26 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	}
 }
 
+// Rows are named as a spreadsheet numbers them: a reason written in
+// paragraphs (line breaks in its quoted cell) does not push the rows
+// below it down. The bad row was named by its line in the file, row 5
+// for the spreadsheet's row 3.
+func TestAnswerSheetNamesRowsAsASpreadsheetDoes(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,reason\n" +
+		"Ada Quell,Q1,0.02,0.06,0.15,\"Logs of 2019.\r\n\r\nAudits of 2024 (invented).\"\n" +
+		"Bruno Ferrante,Q1,0.02,0.01,0.15,\n"
+	_, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "row 3, column q50" {
+		t.Fatalf("got %v, want row 3, column q50", err)
+	}
+	rows, err := ReadAnswerSheet(strings.NewReader(strings.Replace(sheet, "0.02,0.01", "0.01,0.02", 1)+"ada quell,1,0.02,0.06,0.15,\n"), g.qs, g.experts)
+	if !errors.As(err, &ie) || ie.Field != "row 4, column question" || !strings.Contains(ie.Detail, "also on row 2") {
+		t.Fatalf("a repeated row: %v %+v", err, rows)
+	}
+}
+
 // Two active experts of one name must be named by id, and the message
 // says so (it said the name was on nobody's panel).
 func TestAnswerSheetNamesTwoExpertsOfOneName(t *testing.T) {
