@@ -49,13 +49,14 @@ func parseAnswerNumber(name, raw string, q workshop.Question, asPercent bool) (v
 		if !isProportion(q) {
 			return 0, false, &elicit.InputError{Field: name, Rule: rulePercentHere}
 		}
-		v, err := input.Number(name, rest)
-		return v / 100, true, err
+		v, err := input.Percent(name, rest)
+		return v, true, err
+	}
+	if asPercent && isProportion(q) {
+		v, err = input.Percent(name, s)
+		return v, err == nil, err
 	}
 	v, err = input.Number(name, s)
-	if err == nil && asPercent && isProportion(q) {
-		return v / 100, true, nil
-	}
 	return v, false, err
 }
 
@@ -80,7 +81,7 @@ func parseConfidence(raw string) (float64, error) {
 		}
 		return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent, Detail: chart.FormatValue(v * 100)}
 	}
-	return v / 100, nil
+	return input.Percent("confidence", rest)
 }
 
 // readAnswer parses the posted form into the question's format, then

@@ -491,3 +491,32 @@ func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 		t.Fatalf("%d revisions kept from a refused sheet: %+v", len(revs), revs)
 	}
 }
+
+// TestPercentIsKeptAsTyped: a percentage typed on the form or in a sheet
+// is stored as the typed decimal over 100, so 28.81% is 0.2881 in the
+// record, not 0.28809999999999997 (28.81 rounded to a float64, then
+// divided); the same for a four-value confidence of 80.5%.
+func TestPercentIsKeptAsTyped(t *testing.T) {
+	g := newSheetRig(t)
+	q := g.qs[0] // a proportion
+	for _, c := range []struct {
+		raw       string
+		asPercent bool
+	}{{"28.81%", false}, {"28.81 %", false}, {"28.81", true}} {
+		v, pct, err := parseAnswerNumber("values[1]", c.raw, q, c.asPercent)
+		if err != nil || !pct || v != 0.2881 {
+			t.Errorf("%q (percent unit %v): %v, %v, %v; want 0.2881 read as a percentage", c.raw, c.asPercent, v, pct, err)
+		}
+	}
+	if v, err := parseConfidence("80.5"); err != nil || v != 0.805 {
+		t.Errorf("confidence 80.5: %v, %v; want 0.805", v, err)
+	}
+	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,2.5%,28.81%,60.07%\n"
+	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if v := rows[0].Answer.Values; v[0] != 0.025 || v[1] != 0.2881 || v[2] != 0.6007 {
+		t.Errorf("sheet read %v, want [0.025 0.2881 0.6007]", v)
+	}
+}

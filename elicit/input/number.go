@@ -48,6 +48,31 @@ func Number(field, raw string) (float64, error) {
 	return v, nil
 }
 
+// Percent parses raw as Number does, a percentage, and returns it as a
+// proportion: the float64 nearest the typed decimal divided by 100, so
+// 28.81 is 0.2881 exactly as typed, where 28.81 / 100 in floating point
+// is 0.28809999999999997 (the typed number is rounded once, then the
+// quotient again). The field and the rules are Number's.
+func Percent(field, raw string) (float64, error) {
+	v, err := Number(field, raw)
+	if err != nil {
+		return 0, err
+	}
+	s := strings.TrimSpace(raw)
+	mant, exp := s, 0
+	if i := strings.IndexAny(s, "eE"); i >= 0 {
+		mant = s[:i]
+		if exp, err = strconv.Atoi(s[i+1:]); err != nil {
+			return v / 100, nil // an exponent beyond int: 0 or out of range either way
+		}
+	}
+	p, err := strconv.ParseFloat(mant+"e"+strconv.Itoa(exp-2), 64)
+	if err != nil {
+		return v / 100, nil
+	}
+	return p, nil
+}
+
 // Whole parses raw as a whole number in [min, max]: digits only (no sign,
 // point or exponent). Leading zeros are allowed; a number with more than
 // MaxWholeLen digits after them is above every max Parley uses (max must
