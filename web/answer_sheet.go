@@ -46,6 +46,7 @@ const (
 	ruleSheetEmpty   elicit.Rule = "the sheet has no rows"
 	ruleSheetChanged elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
 	ruleSheetExtra   elicit.Rule = "is beyond the columns the header names"
+	ruleSheetCommas  elicit.Rule = "must separate its columns with commas: save it as CSV (comma-separated), with a point for decimals"
 	ruleSheetTwo     elicit.Rule = "names more than one active expert: name each by id:N"
 )
 
@@ -139,6 +140,15 @@ func ReadAnswerSheet(r io.Reader, questions []workshop.Question, experts []works
 	for _, q := range questions {
 		for _, c := range sheetColumns(q) {
 			known[c] = true
+		}
+	}
+	if len(header) == 1 {
+		// A spreadsheet set to a decimal comma saves CSV with semicolons
+		// (or tabs) between the columns: the whole header is one cell.
+		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
+			if strings.Contains(header[0], sep.char) {
+				return nil, &elicit.InputError{Field: "sheet", Rule: ruleSheetCommas, Detail: "the columns are separated by " + sep.name}
+			}
 		}
 	}
 	col := map[string]int{}

@@ -239,6 +239,10 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// reason without its column, or a value split by a decimal comma.
 		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", ruleSheetExtra},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
+		// A spreadsheet set to a decimal comma writes semicolons between
+		// columns; the whole header was quoted back as one unknown column.
+		{"semicolons between columns", "expert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", ruleSheetCommas},
+		{"tabs between columns", "expert\tquestion\tq05\tq50\tq95\nAda Quell\tQ1\t0.02\t0.06\t0.15\n", "sheet", ruleSheetCommas},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", ruleSheetQuest},
 	} {
 		t.Run(c.name, func(t *testing.T) {
