@@ -524,3 +524,42 @@ func TestPercentIsKeptAsTyped(t *testing.T) {
 		t.Errorf("sheet read %v, want [0.025 0.2881 0.6007]", v)
 	}
 }
+
+// An upload that sends the file, or a field, twice is refused as every
+// form's repeated field is (400, nothing read or saved); a second file
+// was ignored in silence.
+func TestSheetUploadFieldSentTwice(t *testing.T) {
+	g := newSheetRig(t)
+	upload := func(files int, channels ...string) (*http.Response, string) {
+		var buf bytes.Buffer
+		mw := multipart.NewWriter(&buf)
+		for i := 0; i < files; i++ {
+			fw, _ := mw.CreateFormFile("file", "answers.csv")
+			fw.Write([]byte(goodSheet))
+		}
+		for _, c := range channels {
+			mw.WriteField("channel", c)
+		}
+		mw.Close()
+		req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
+		req.Header.Set("Content-Type", mw.FormDataContentType())
+		req.Header.Set("Origin", g.h.ts.URL)
+		return g.h.do(req)
+	}
+	if r, body := upload(1, "message"); r.StatusCode != http.StatusOK {
+		t.Fatalf("one file: %d %.300s", r.StatusCode, body)
+	}
+	for _, c := range []struct {
+		name   string
+		files  int
+		fields []string
+	}{{"two files", 2, []string{"message"}}, {"two channels", 1, []string{"message", "phone"}}} {
+		r, body := upload(c.files, c.fields...)
+		if r.StatusCode != http.StatusBadRequest || !strings.Contains(body, "takes one value, got 2") {
+			t.Errorf("%s: %d %q, want 400 naming the field", c.name, r.StatusCode, body)
+		}
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("%d revisions saved", n)
+	}
+}

@@ -69,6 +69,18 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 			http.Error(w, "The upload could not be read: "+err.Error(), http.StatusBadRequest)
 			return nil, "", false
 		}
+		// As every form: a field, the file included, sent twice is
+		// refused, not half-read (a second file was ignored in silence).
+		if !oneValueEach(w, r.MultipartForm.Value) {
+			return nil, "", false
+		}
+		files := make(map[string][]string, len(r.MultipartForm.File))
+		for name, fhs := range r.MultipartForm.File {
+			files[name] = make([]string, len(fhs))
+		}
+		if !oneValueEach(w, files) {
+			return nil, "", false
+		}
 	} else if !parseForm(w, r) {
 		return nil, "", false
 	}

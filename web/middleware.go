@@ -122,11 +122,17 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 		http.Error(w, "The form could not be read: "+err.Error(), http.StatusBadRequest)
 		return false
 	}
-	// Every field of every Parley form takes one value. A second one is
-	// refused rather than silently dropped (net/url keeps both and Get
-	// returns the first), since it comes only from a hand-made request.
-	names := make([]string, 0, len(r.PostForm))
-	for name, vs := range r.PostForm {
+	return oneValueEach(w, r.PostForm)
+}
+
+// oneValueEach refuses a form that sends a field twice. Every field of
+// every Parley form takes one value. A second one is refused rather than
+// silently dropped (net/url keeps both and Get returns the first), since
+// it comes only from a hand-made request. It answers 400 itself and
+// returns false.
+func oneValueEach(w http.ResponseWriter, form map[string][]string) bool {
+	names := make([]string, 0, len(form))
+	for name, vs := range form {
 		if len(vs) > 1 {
 			names = append(names, name)
 		}
@@ -134,7 +140,7 @@ func parseForm(w http.ResponseWriter, r *http.Request) bool {
 	if len(names) > 0 {
 		sort.Strings(names)
 		http.Error(w, fmt.Sprintf("The form could not be read: %s: takes one value, got %d. Nothing was saved.",
-			input.Clip(names[0], 40), len(r.PostForm[names[0]])), http.StatusBadRequest)
+			input.Clip(names[0], 40), len(form[names[0]])), http.StatusBadRequest)
 		return false
 	}
 	return true
