@@ -200,9 +200,9 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	if err != nil {
 		return nil, err
 	}
-	first := len(cols) - len(probs) // the first quantile column
-	hasBounds := first > len(seedHeader)
-	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, qcols: cols[first:]}
+	firstQ := len(cols) - len(probs) // the first quantile column
+	hasBounds := firstQ > len(seedHeader)
+	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, qcols: cols[firstQ:]}
 	realRow := map[string]int{}
 	boundsRow := map[string]int{}
 	seen := map[[2]string]int{}
@@ -254,12 +254,12 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 			}
 		}
 		for j := range probs {
-			if a.Quantiles[j], err = number(field(cols[first+j]), cell(first+j)); err != nil {
+			if a.Quantiles[j], err = number(field(cols[firstQ+j]), cell(firstQ+j)); err != nil {
 				return nil, err
 			}
 		}
 		if err := a.Validate(); err != nil {
-			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[first:])
+			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[firstQ:])
 		}
 		key := [2]string{a.Expert, a.Question}
 		if first, dup := seen[key]; dup {

@@ -532,7 +532,8 @@ func TestCalibrateBoundsCutTheRange(t *testing.T) {
 // (record.WriteCalibrationCSV) fed to parley calibrate gives the page's
 // own scores and weights (workshop.ScorePerformance), with each question's
 // bounds; also for questions asked at 10/50/90, for two experts of one
-// name and for a name a spreadsheet would run as a formula. In the invented
+// name, for a name a spreadsheet would run as a formula and for one the
+// command would read as a comment. In the invented
 // valve-wear workshop the third seed's answers span [0.05, 0.74]; widened
 // by 10% its range starts at −0.019, which the bound 0 cuts, so the file
 // scores as the page only with its bounds.
@@ -546,6 +547,7 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 	}
 	sameNames := func(s *workshop.Snapshot) { s.Experts[2].Name = "a" } // A and a
 	formula := func(s *workshop.Snapshot) { s.Experts[1].Name = "=B" }
+	hash := func(s *workshop.Snapshot) { s.Experts[0].Name = "#1 A" }
 	fixed := 0.2
 	for _, c := range []struct {
 		name   string
@@ -557,6 +559,7 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 		{"10/50/90", tenFiftyNinety, nil},
 		{"two experts of one name", sameNames, nil},
 		{"a formula-like name", formula, nil},
+		{"a name starting with #", hash, nil},
 	} {
 		snap := workshoptest.ValveWear(true)
 		if c.change != nil {
@@ -603,6 +606,9 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 			}
 			if c.name == "a formula-like name" && e.Name == "=B" {
 				name = "'=B"
+			}
+			if c.name == "a name starting with #" && e.Name == "#1 A" {
+				name = "'#1 A"
 			}
 			i, ok := byName[name]
 			if !ok {

@@ -21,7 +21,8 @@ import (
 // by Q and their position, with their quantity and units in the comment
 // lines above the header. alpha, when not nil, is the page's fixed
 // cut-off, given in the comment's command. Names that a spreadsheet would
-// run as a formula are prefixed with an apostrophe, as in WriteCSV.
+// run as a formula are prefixed with an apostrophe, as in WriteCSV, and so
+// are names starting with #, which the command would read as comments.
 func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet, alpha *float64) error {
 	header := []string{"expert", "question", "realization", "lower", "upper"}
 	for _, p := range set.Probs {
@@ -65,7 +66,13 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 			return fmt.Errorf("record: calibration answer by unknown expert %q", a.Expert)
 		}
 		bounds := set.Bounds[a.Question]
-		row := []string{cell(name), "Q" + strconv.Itoa(q.Position)}
+		name = cell(name)
+		if strings.HasPrefix(name, "#") {
+			// The command reads a line starting with # as a comment: the
+			// row would be skipped and the scores would change.
+			name = "'" + name
+		}
+		row := []string{name, "Q" + strconv.Itoa(q.Position)}
 		row = append(row, floats(set.Realisations[a.Question], bounds[0], bounds[1])...)
 		row = append(row, floats(a.Quantiles...)...)
 		if err := cw.Write(row); err != nil {
