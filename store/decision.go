@@ -323,6 +323,26 @@ func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consen
 		marks += `, ?`
 		args = append(args, construction)
 	}
+	if len(p.Pooled) > 0 {
+		// Each pooled revision must be one of this question's.
+		for _, id := range p.Pooled {
+			var n int
+			if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM revisions WHERE id = ? AND question_id = ?`, id, p.QuestionID).Scan(&n); err != nil {
+				return 0, fmt.Errorf("store: agree prior: %w", err)
+			}
+			if n == 0 {
+				return 0, &elicit.InputError{Field: "pooled_revisions", Rule: elicit.RuleUnknown,
+					Detail: fmt.Sprintf("no revision %d on question %d", id, p.QuestionID)}
+			}
+		}
+		pooled, err := json.Marshal(p.Pooled)
+		if err != nil {
+			return 0, fmt.Errorf("store: agree prior: %w", err)
+		}
+		cols += `, pooled_revisions`
+		marks += `, ?`
+		args = append(args, string(pooled))
+	}
 	res, err := tx.ExecContext(ctx, `INSERT INTO agreed_priors (`+cols+`) VALUES (`+marks+`)`, args...)
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
@@ -343,7 +363,7 @@ func (db *DB) AgreedPriors(ctx context.Context, workshopID int64) ([]workshop.Ag
 func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.AgreedPrior, error) {
 	rows, err := db.QueryContext(ctx,
 		`SELECT p.id, p.question_id, p.source, p.alpha, p.beta, p.lower, p.upper, p.consensus,
-		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at, p.construction
+		        p.rationale, p.round, p.round_open, p.weight_set_id, p.at, p.construction, p.pooled_revisions
 		 FROM agreed_priors p JOIN questions q ON q.id = p.question_id
 		 WHERE q.workshop_id = ? ORDER BY p.id`, workshopID)
 	if err != nil {
@@ -357,11 +377,12 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.A
 			source, at string
 			consensus  sql.NullString
 			built      sql.NullString
+			pooled     sql.NullString
 			roundOpen  int
 			set        sql.NullInt64
 		)
 		if err := rows.Scan(&p.ID, &p.QuestionID, &source, &p.Dist.Alpha, &p.Dist.Beta.Beta,
-			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at, &built); err != nil {
+			&p.Dist.Lower, &p.Dist.Upper, &consensus, &p.Rationale, &p.Round, &roundOpen, &set, &at, &built, &pooled); err != nil {
 			return nil, fmt.Errorf("store: read agreed prior: %w", err)
 		}
 		p.Source = workshop.PriorSource(source)
@@ -370,6 +391,11 @@ func readPriors(ctx context.Context, db querier, workshopID int64) ([]workshop.A
 			p.Consensus = new(workshop.Answer)
 			if err := json.Unmarshal([]byte(consensus.String), p.Consensus); err != nil {
 				return nil, fmt.Errorf("store: bad stored consensus %q: %w", consensus.String, err)
+			}
+		}
+		if pooled.Valid {
+			if err := json.Unmarshal([]byte(pooled.String), &p.Pooled); err != nil {
+				return nil, fmt.Errorf("store: bad stored pooled revisions %q: %w", pooled.String, err)
 			}
 		}
 		if built.Valid {

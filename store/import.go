@@ -265,6 +265,13 @@ func (imp importer) prior(ap workshop.AgreedPrior) error {
 		return err
 	}
 	ap.QuestionID, ap.WeightSetID = imp.questions[ap.QuestionID], imp.weightSets[ap.WeightSetID]
+	if len(ap.Pooled) > 0 {
+		pooled := make([]int64, len(ap.Pooled))
+		for i, id := range ap.Pooled {
+			pooled[i] = imp.revisions[id]
+		}
+		ap.Pooled = pooled
+	}
 	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus, construction); err != nil {
 		return fmt.Errorf("agreed prior %d: %w", ap.ID, err)
 	}

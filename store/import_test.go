@@ -7,6 +7,8 @@ import (
 	"errors"
 	"fmt"
 	"path/filepath"
+	"reflect"
+	"strings"
 	"testing"
 	"time"
 
@@ -46,8 +48,19 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "audits",
 		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1}}))
 	consensus := quantileAnswer(0.33)
+	// The pool's prior names the revisions it pooled: the active experts'
+	// latest on the question (Cela is revoked).
+	latest := map[int64]int64{}
+	rs, err := db.Revisions(ctx, p.w.ID)
+	must(t, err)
+	for _, rv := range rs {
+		if rv.QuestionID == p.qs[0].ID && rv.ExpertID != p.experts[2].ID {
+			latest[rv.ExpertID] = rv.ID
+		}
+	}
 	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true}))
+		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true,
+		Pooled: []int64{latest[p.experts[0].ID], latest[p.experts[1].ID]}}))
 	// A consensus prior is its judgement's fit, as the panel's form makes it.
 	agreed, err := p.qs[0].Fit(consensus)
 	must(t, err)
@@ -149,6 +162,25 @@ func TestImportRoundTrip(t *testing.T) {
 	for id := range copyRec.Weights.ByExpert {
 		if !newExperts[id] {
 			t.Fatalf("weights name expert %d outside the copy", id)
+		}
+	}
+	// The pooled revisions are remapped to the copy's own, with the same
+	// experts' same answers.
+	byID := func(r record.Record) map[int64]record.Revision {
+		m := map[int64]record.Revision{}
+		for _, rv := range r.Revisions {
+			m[rv.ID] = rv
+		}
+		return m
+	}
+	was, now := rec.Questions[0].PriorHistory[0].Pooled, copyRec.Questions[0].PriorHistory[0].Pooled
+	if len(was) != 2 || len(now) != len(was) {
+		t.Fatalf("pooled revisions %v in the copy, %v in the record", now, was)
+	}
+	for i := range was {
+		a, b := byID(rec)[was[i]], byID(copyRec)[now[i]]
+		if now[i] == was[i] || b.QuestionID != copyRec.Questions[0].ID || !reflect.DeepEqual(a.Answer, b.Answer) || a.Reason != b.Reason {
+			t.Errorf("pooled revision %d became %d: %+v, was %+v", was[i], now[i], b.Revision, a.Revision)
 		}
 	}
 	if copyRec.Questions[0].AgreedPrior.Dist != rec.Questions[0].AgreedPrior.Dist {
@@ -356,5 +388,44 @@ func TestImportRecordWithoutProvenance(t *testing.T) {
 		if rv.EnteredBy != workshop.ByExpert || rv.Channel != "" {
 			t.Fatalf("an older record's revision reads as %q %q", rv.EnteredBy, rv.Channel)
 		}
+	}
+}
+
+// TestPooledRevisionsAreTheQuestions: a prior from the pool may name only
+// revisions of its own question, in the store and in an imported record,
+// and only a prior from the pool names any.
+func TestPooledRevisionsAreTheQuestions(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	rec, err := src.Record(ctx, p.w.ID, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var other int64 // a revision of the second question
+	for _, rv := range rec.Revisions {
+		if rv.QuestionID == p.qs[1].ID {
+			other = rv.ID
+		}
+	}
+	var ie *elicit.InputError
+	for _, ap := range []workshop.AgreedPrior{
+		{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool, Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true, Pooled: []int64{other}},
+		{QuestionID: p.qs[0].ID, Source: workshop.PriorFromConsensus, Dist: rec.Questions[0].AgreedPrior.Dist, Consensus: rec.Questions[0].AgreedPrior.Consensus,
+			Rationale: "agreed", RoundOpen: true, Pooled: rec.Questions[0].PriorHistory[0].Pooled},
+	} {
+		if err := src.AgreePrior(ctx, &ap); !errors.As(err, &ie) || !strings.HasPrefix(ie.Field, "pooled_revisions") {
+			t.Errorf("%s prior pooling %v: %v, want a refusal on pooled_revisions", ap.Source, ap.Pooled, err)
+		}
+	}
+	rec.Questions[0].PriorHistory[0].Pooled[0] = other
+	dst := newDB(t)
+	if _, err := dst.Import(ctx, rec); !errors.As(err, &ie) || ie.Field != "questions[0].prior_history[0].pooled_revisions[0]" {
+		t.Fatalf("import of a prior pooling another question's revision: %v", err)
+	}
+	var n int
+	must(t, dst.r.QueryRowContext(ctx, `SELECT COUNT(*) FROM agreed_priors`).Scan(&n))
+	if n != 0 {
+		t.Errorf("a refused import left %d agreed priors", n)
 	}
 }

@@ -21,8 +21,9 @@ import (
 // cut-off of 0 (set C). The export record must reproduce, from its own
 // stored calibration answers and true values alone, the weights of A and
 // C by elicit.ClassicalModel, the agreed prior from the pool under A
-// (LinearPool of the fits standing at the agreement, then BestBeta), and
-// the current pool under C.
+// (LinearPool of the fits of the revisions it names as pooled, which are
+// those standing at the agreement, then BestBeta), and the current pool
+// under C.
 func TestRecordReproducesEachPool(t *testing.T) {
 	p := newSeedPanel(t)
 	h := p.h
@@ -165,11 +166,25 @@ func TestRecordReproducesEachPool(t *testing.T) {
 	if ap.WeightSetID != hist[0].ID {
 		t.Fatalf("prior agreed under set %d, want %d", ap.WeightSetID, hist[0].ID)
 	}
-	then := map[int64]elicit.ScaledBeta{}
+	// The prior names the revisions it pooled (pooled_revisions): each
+	// expert's latest on the question at the agreement, which a reviewer
+	// would otherwise have to infer from the times.
+	latest := map[int64]int64{}
 	for _, rv := range rec.Revisions {
-		if rv.QuestionID == target.ID && !rv.At.After(ap.At) && rv.Fit != nil {
-			then[rv.ExpertID] = rv.Fit.Dist
+		if rv.QuestionID == target.ID && !rv.At.After(ap.At) {
+			latest[rv.ExpertID] = rv.ID
 		}
+	}
+	if len(ap.Pooled) != len(p.experts) || len(latest) != len(p.experts) {
+		t.Fatalf("pooled revisions %v, the experts' latest at the agreement %v", ap.Pooled, latest)
+	}
+	then := map[int64]elicit.ScaledBeta{}
+	for _, id := range ap.Pooled {
+		rv, ok := revisions[id]
+		if !ok || rv.QuestionID != target.ID || latest[rv.ExpertID] != id || rv.Fit == nil {
+			t.Fatalf("pooled revision %d is not an expert's latest on the target at the agreement: %+v", id, rv.Revision)
+		}
+		then[rv.ExpertID] = rv.Fit.Dist
 	}
 	rep, err := pool(then, reproduce(hist[0])).BestBeta()
 	if err != nil {

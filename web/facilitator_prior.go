@@ -39,6 +39,13 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		switch {
 		case st.Rep != nil:
 			p.Dist = st.Rep.Dist
+			// The revisions the pool was formed from, as agreed: the
+			// record names them, so nobody has to infer them.
+			for _, row := range st.Rows {
+				if row.Pooled && row.Revision != nil {
+					p.Pooled = append(p.Pooled, row.Revision.ID)
+				}
+			}
 		case st.PoolError != "":
 			f.set("source", st.PoolError)
 		default:

@@ -107,6 +107,7 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 	}
 	seenR := map[int64]bool{}
+	revQuestion := map[int64]int64{} // revision → its question
 	for i, rv := range r.Revisions {
 		p := fmt.Sprintf("revisions[%d]", i)
 		if err := checkID(p+".id", rv.ID, seenR); err != nil {
@@ -144,6 +145,18 @@ func (r Record) validate(fits []elicit.Fit) error {
 			}
 		}
 		fits[i] = f
+		revQuestion[rv.ID] = rv.QuestionID
+	}
+	// A prior from the pool names revisions of its own question.
+	for i, q := range r.Questions {
+		for j, ap := range q.PriorHistory {
+			for k, id := range ap.Pooled {
+				if revQuestion[id] != q.ID {
+					return inputErr(fmt.Sprintf("questions[%d].prior_history[%d].pooled_revisions[%d]", i, j, k), elicit.RuleUnknown,
+						"no revision %d on question %d in the record", id, q.ID)
+				}
+			}
+		}
 	}
 	if err := r.checkWeightHistory(experts, questions); err != nil {
 		return err

@@ -2,6 +2,7 @@ package workshop
 
 import (
 	"errors"
+	"fmt"
 	"math"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -17,6 +18,16 @@ const RuleConstructionMismatch elicit.Rule = "must be the Beta its construction 
 // 1e-9 relative, so a record written with fewer digits still reads); no
 // other source keeps a construction.
 func (p AgreedPrior) CheckSource() error {
+	if len(p.Pooled) > 0 && p.Source != PriorFromPool {
+		return inputErr("pooled_revisions", elicit.RuleUnknown, "only a prior from the pool keeps the revisions it pooled")
+	}
+	seen := map[int64]bool{}
+	for i, id := range p.Pooled {
+		if id <= 0 || seen[id] {
+			return inputErr(fmt.Sprintf("pooled_revisions[%d]", i), elicit.RuleUnknown, "revision %d given twice or not an id", id)
+		}
+		seen[id] = true
+	}
 	switch p.Source {
 	case PriorFromPool, PriorFromConsensus:
 		if p.Construction != nil {

@@ -339,8 +339,14 @@ type AgreedPrior struct {
 	// (Weights.ID), so a prior taken from the pool can be traced to the
 	// weights that made the pool; 0 when no set had been applied (equal
 	// weights) or the prior predates this link.
-	WeightSetID int64     `json:"weight_set_id,omitempty"`
-	At          time.Time `json:"at"`
+	WeightSetID int64 `json:"weight_set_id,omitempty"`
+	// Pooled are the revisions whose fits made the pool, for a prior from
+	// PriorFromPool: each active expert's current revision on the question
+	// as the facilitator agreed it, in roster order, so a reviewer can
+	// form the pool again from the record alone. Empty for other sources
+	// and for a prior agreed before Parley kept them.
+	Pooled []int64   `json:"pooled_revisions,omitempty"`
+	At     time.Time `json:"at"`
 }
 
 // Snapshot is everything stored about one workshop, read at one moment:
