@@ -185,6 +185,21 @@ func TestArchiveAndDelete(t *testing.T) {
 	if len(after) != len(before) {
 		t.Fatalf("deleting one workshop changed another's events")
 	}
+	// The deleted workshop's id is not given again, by creation or by
+	// import: it had the largest id, which SQLite would reuse.
+	again := workshop.Workshop{Title: "Created after the deletion (invented)"}
+	must(t, db.CreateWorkshop(ctx, &again))
+	if again.ID <= empty.w.ID {
+		t.Errorf("a new workshop took id %d; the deleted one had %d", again.ID, empty.w.ID)
+	}
+	rec, err := db.Record(ctx, p.w.ID, exportTime)
+	must(t, err)
+	must(t, db.DeleteWorkshop(ctx, again.ID, "also a mistake"))
+	imported, err := db.Import(ctx, rec)
+	must(t, err)
+	if imported <= again.ID {
+		t.Errorf("an imported workshop took id %d; a deleted one had %d", imported, again.ID)
+	}
 	// Outside a deletion the record stays append-only.
 	if _, err := db.w.ExecContext(ctx, `DELETE FROM events WHERE workshop_id = ?`, p.w.ID); err == nil {
 		t.Fatal("events of a workshop were deleted outside a deletion")

@@ -116,8 +116,8 @@ func (imp importer) insert(query string, args ...any) (int64, error) {
 
 func (imp importer) workshop(w workshop.Workshop) (int64, error) {
 	return imp.insert(
-		`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, archived, created)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		`INSERT INTO workshops (id, title, purpose, decision, notes, round, round_open, invented, archived, created)
+		 VALUES (`+nextWorkshopID+`, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), boolInt(w.Archived), formatTime(w.Created))
 }
 

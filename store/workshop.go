@@ -12,14 +12,22 @@ import (
 
 const workshopColumns = `id, title, purpose, decision, notes, round, round_open, invented, archived, created`
 
+// nextWorkshopID is a new workshop's id: past every workshop's and every
+// deleted workshop's. SQLite's own choice (the largest id + 1) gave a new
+// workshop the id of one just deleted, so the deleted workshops' list and
+// a live workshop shared an id, and an old address /w/N or a file
+// parley-workshop-N.json named another workshop.
+const nextWorkshopID = `(SELECT MAX(n) + 1 FROM (SELECT COALESCE(MAX(id), 0) AS n FROM workshops
+	UNION ALL SELECT COALESCE(MAX(workshop_id), 0) FROM workshop_deletions))`
+
 // CreateWorkshop saves a new workshop in round 1, open, and records
 // EventWorkshopCreated. It sets w's ID, Created, Round and Open.
 func (db *DB) CreateWorkshop(ctx context.Context, w *workshop.Workshop) error {
 	created := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
 		res, err := tx.ExecContext(ctx,
-			`INSERT INTO workshops (title, purpose, decision, notes, round, round_open, invented, created)
-			 VALUES (?, ?, ?, ?, 1, 1, ?, ?)`,
+			`INSERT INTO workshops (id, title, purpose, decision, notes, round, round_open, invented, created)
+			 VALUES (`+nextWorkshopID+`, ?, ?, ?, ?, 1, 1, ?, ?)`,
 			w.Title, w.Purpose, w.Decision, w.Notes, boolInt(w.Invented), formatTime(created))
 		if err != nil {
 			return fmt.Errorf("store: create workshop: %w", err)
