@@ -194,7 +194,7 @@ func newPredictiveTerms(prior Beta, n int) predictiveTerms {
 	return predictiveTerms{a: prior.Alpha, b: prior.Beta, lgN: lgN, lbPrior: lnBeta(prior.Alpha, prior.Beta), n: n}
 }
 
-// term is P(X = x), in logs as PriorPredictive computes it.
+// term is P(X = x), computed in logs (PriorPredictive's terms).
 func (t predictiveTerms) term(x int) float64 {
 	fx, fnx := float64(x), float64(t.n-x)
 	lgx, _ := math.Lgamma(fx + 1)

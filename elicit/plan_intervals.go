@@ -41,9 +41,8 @@ func newPosterior(a, b float64) posterior {
 // gonum; TestPosteriorTails). Elsewhere gonum's is used: its error there
 // is the cancellation incBeta's doc describes (1e-10 relative at shapes
 // of 10⁵), and in the bulk of large shapes it is several times faster
-// (measured
-// with BenchmarkCriterion; only the outcomes at the ends of a planned
-// study leave a posterior shape below 1).
+// (measured with BenchmarkCriterion; only the outcomes at the ends of a
+// planned study leave a posterior shape below 1).
 func (p posterior) cdf(x float64) float64 {
 	switch {
 	case x <= 0:

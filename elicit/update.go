@@ -247,15 +247,10 @@ func PriorPredictive(prior Beta, n int) ([]float64, error) {
 	if n > MaxPredictiveTrials {
 		return nil, inputErr("trials", RuleCountRange, "%d is above the limit %d", n, MaxPredictiveTrials)
 	}
-	a, b := prior.Alpha, prior.Beta
-	lgN, _ := math.Lgamma(float64(n) + 1)
-	lbPrior := lnBeta(a, b)
+	t := newPredictiveTerms(prior, n)
 	pmf := make([]float64, n+1)
 	for k := range pmf {
-		fk, fnk := float64(k), float64(n-k)
-		lgk, _ := math.Lgamma(fk + 1)
-		lgnk, _ := math.Lgamma(fnk + 1)
-		pmf[k] = math.Exp(lgN - lgk - lgnk + lnBeta(fk+a, fnk+b) - lbPrior)
+		pmf[k] = t.term(k)
 	}
 	return pmf, nil
 }
