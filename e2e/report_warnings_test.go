@@ -44,7 +44,7 @@ func TestReportWarningsReadOnEveryScreen(t *testing.T) {
 	answers := [][]float64{
 		{0.06, 0.15, 0.38}, {0.06, 0.15, 0.42}, {0.06, 0.15, 0.45}, {0.05, 0.1, 0.4}, {0.8, 0.95, 0.98}, // an outer value missed
 		{0.0495, 0.05, 0.0505}, // near-certainty
-		{0.13, 0.15, 0.3},      // poor fit
+		{0.13, 0.15, 0.3},      // its 95% value missed (a gap of 0.05 exactly, not above: elicit.PoorFit)
 		{0.0002, 0.004, 0.09},  // J-shaped, and its 95% value missed
 		{0.06, 0.15, 0.35},     // no warning
 	}
@@ -68,7 +68,7 @@ func TestReportWarningsReadOnEveryScreen(t *testing.T) {
 	for _, width := range []int64{390, 1366} {
 		fac.viewport(width, 900, width == 390)
 		fac.open(wsURL + "/report")
-		fac.sees(fmt.Sprintf("report at %d px", width), "Outer value missed: 6 of 9 experts", "Near-certainty: 1 of 9 experts", "Poor fit: 1 of 9 experts", "J-shaped fit: 1 of 9 experts", "revoked, not pooled")
+		fac.sees(fmt.Sprintf("report at %d px", width), "Outer value missed: 7 of 9 experts", "Near-certainty: 1 of 9 experts", "J-shaped fit: 1 of 9 experts", "revoked, not pooled")
 		fits(t, fac, "report", width)
 		if cut := eval[[]string](fac, "tail misses' cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-tails td, .warning-group")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 			t.Errorf("at %d px the warnings run past the screen: %q", width, cut)

@@ -5,13 +5,25 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strconv"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
 
 // PoorFitThreshold is the largest probability error |F(xᵢ) − pᵢ| above
-// which a fit is reported as poor (WarnPoorFit).
+// which a fit is reported as poor (WarnPoorFit; PoorFit).
 const PoorFitThreshold = 0.05
+
+// PoorFit reports whether a largest probability error is above
+// PoorFitThreshold by more than rounding. A fit that puts all its mass
+// below a stated 95% point has F = 1 there, and 1 − 0.95 is
+// 0.050000000000000044 in float64 (0.95 is not a binary fraction), while
+// the same fit below a point whose F rounds to 1 − 1e-17 gave
+// 0.049999999999999996: one expert warned and the other not, for one gap
+// of 0.05, and the warning read "misses by 0.050 (more than 0.05)". The
+// margin, 1e-12, is far above that rounding and far below any gap a
+// person could mean (common practice, no source for its size).
+func PoorFit(gap float64) bool { return gap > PoorFitThreshold+1e-12 }
 
 // A stated outer point, one whose tail chance min(p, 1 − p) is at most
 // TailPointMax, is reported as missed (WarnTailMisfit) when the fitted
@@ -106,7 +118,7 @@ func FitQuantiles(j Judgement) (Fit, error) {
 		return Fit{}, err
 	}
 	f := newFit(ScaledBeta{Beta: d, Lower: j.Lower, Upper: j.Upper}, j.Probs, j.Values, sse, resid)
-	if f.MaxProbError <= PoorFitThreshold {
+	if !PoorFit(f.MaxProbError) {
 		if w, ok := tailWarning(j.Probs, j.Values, resid); ok {
 			f.Warnings = append(f.Warnings, w)
 		}
@@ -209,9 +221,10 @@ func fitWarnings(d Beta, maxErr float64, proportion bool) []Warning {
 		w = append(w, Warning{WarnJShaped, fmt.Sprintf(
 			"The fitted density is J-shaped (β = %s is below 1): it rises without limit towards the upper bound. Check with the expert that values right at the upper bound are the most likely.", ShapeText(b))})
 	}
-	if maxErr > PoorFitThreshold {
+	if PoorFit(maxErr) {
 		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(
-			"The fitted Beta misses one of the stated probabilities by %.3f (more than %.2f): no single Beta matches these answers well. Show the expert the fit and ask whether they want to revise.", maxErr, PoorFitThreshold)})
+			"The fitted Beta misses one of the stated probabilities by %s (more than %.2f): no single Beta matches these answers well. Show the expert the fit and ask whether they want to revise.",
+			strconv.FormatFloat(maxErr, 'g', SideDigits(maxErr, PoorFitThreshold, 3), 64), PoorFitThreshold)})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
 		w = append(w, Warning{WarnNearCertainty, "The fitted prior " + weightWords(ess, proportion) + ": it implies near-certainty about the value. Check that the expert really is this sure."})

@@ -120,6 +120,13 @@ func TestFitWarnings(t *testing.T) {
 		// within PoorFitThreshold, but the fitted chance above 0.2 is
 		// about 4e-5 where the expert said 5%.
 		{"outer value out of reach", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.02, 0.05, 0.2}, 0, 1}, []WarningCode{WarnTailMisfit}},
+		// The fit puts all its mass below the 95% value: F = 1 there and
+		// a gap of 1 − 0.95, which float64 makes 0.050000000000000044.
+		// It was a poor fit (beside a gap of 0.05 shown as "0.050 (more
+		// than 0.05)") where the same fit of 0.05/0.1/0.4 was not; both
+		// are outer values missed (PoorFit).
+		{"a gap of exactly 0.05 above", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.13, 0.15, 0.3}, 0, 1}, []WarningCode{WarnTailMisfit}},
+		{"a gap of exactly 0.05 below", Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.05, 0.1, 0.4}, 0, 1}, []WarningCode{WarnTailMisfit}},
 	}
 	for _, c := range cases {
 		f, err := FitQuantiles(c.j)
@@ -205,6 +212,7 @@ func TestFitWarningRules(t *testing.T) {
 		{1, 1, 0, nil},
 		{2, 3, PoorFitThreshold, nil},
 		{2, 3, PoorFitThreshold + 1e-9, []WarningCode{WarnPoorFit}},
+		{2, 3, 1 - 0.95, nil}, // 0.050000000000000044: rounding, not a gap above 0.05
 		{500, 500, 0, nil},
 		{500, 500.5, 0, []WarningCode{WarnNearCertainty}},
 	}

@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"strconv"
 )
 
 // RuleSameBounds is broken when the experts' distributions to be pooled
@@ -698,7 +699,7 @@ func (p Pool) BestBeta() (Representation, error) {
 // sentences.
 func (r Representation) Far() (cdf, sd, interval bool) {
 	far := func(x float64) bool { return !(x <= SpreadRatioLimit && x >= 1/SpreadRatioLimit) }
-	return r.MaxCDFError > PoorFitThreshold, far(r.SDRatio), far(r.IntervalRatio)
+	return PoorFit(r.MaxCDFError), far(r.SDRatio), far(r.IntervalRatio)
 }
 
 // representationWarnings flags the Beta by the CDF distance
@@ -708,7 +709,8 @@ func (r Representation) representationWarnings() []string {
 	w := []string{}
 	cdf, sd, interval := r.Far()
 	if cdf {
-		w = append(w, fmt.Sprintf("The single Beta is far from the pool: their CDFs differ by up to %.3g (more than %.2g). Report the pool itself or agree a consensus judgement.", r.MaxCDFError, PoorFitThreshold))
+		w = append(w, fmt.Sprintf("The single Beta is far from the pool: their CDFs differ by up to %s (more than %.2g). Report the pool itself or agree a consensus judgement.",
+			strconv.FormatFloat(r.MaxCDFError, 'g', SideDigits(r.MaxCDFError, PoorFitThreshold, 3), 64), PoorFitThreshold))
 	}
 	if sd {
 		w = append(w, fmt.Sprintf("The single Beta's standard deviation is %.3g times the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.SDRatio, 1/SpreadRatioLimit, SpreadRatioLimit))

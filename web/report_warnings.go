@@ -118,7 +118,7 @@ func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning) {
 func gapText(gap float64) string {
 	for d := 3; d < 17; d++ {
 		s := strconv.FormatFloat(gap, 'f', d, 64)
-		if v, err := strconv.ParseFloat(s, 64); err == nil && v > elicit.PoorFitThreshold {
+		if v, err := strconv.ParseFloat(s, 64); err == nil && elicit.PoorFit(v) {
 			return s
 		}
 	}
