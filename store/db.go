@@ -64,6 +64,9 @@ func open(path string) (*DB, error) {
 	if path == "" {
 		return nil, errors.New("store: empty database path")
 	}
+	if err := oneName(path); err != nil {
+		return nil, err
+	}
 	w, err := sql.Open("sqlite3", dsn(path, false))
 	if err != nil {
 		return nil, fmt.Errorf("store: open %s: %w", path, err)

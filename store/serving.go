@@ -19,7 +19,8 @@ import (
 // process ends, however it ends, so a crash leaves no stale claim. Other
 // commands (export, backup, import, facilitator-reset) do not claim the
 // file: they read, or only add rows and secrets, which the server does
-// not remember.
+// not remember. They do refuse, as serve does, a file with more than one
+// name (Open, oneName): SQLite would keep a second journal for it.
 
 // ServingClaim is a server's hold on its database file.
 type ServingClaim struct {
@@ -59,7 +60,7 @@ type ManyNamesError struct {
 func (e *ManyNamesError) Error() string {
 	return fmt.Sprintf("%s is one file with %d names (hard links); SQLite names its journal files (-wal, -shm) "+
 		"after the name a database is opened by, so two names could corrupt it: remove the other names, "+
-		"or serve a copy (parley backup --out)", e.Database, e.Links)
+		"or copy the file (cp) while nothing has it open", e.Database, e.Links)
 }
 
 // ClaimServing claims the database at path for this process until
@@ -73,11 +74,8 @@ func ClaimServing(path string) (*ServingClaim, error) {
 	if err != nil {
 		return nil, err
 	}
-	var st syscall.Stat_t
-	if err := syscall.Stat(real, &st); err == nil && st.Nlink > 1 {
-		return nil, &ManyNamesError{Database: path, Links: uint64(st.Nlink)}
-	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
-		return nil, fmt.Errorf("store: %s: %w", path, err)
+	if err := oneName(path); err != nil {
+		return nil, err
 	}
 	lock := LockFile(real)
 	f, err := os.OpenFile(lock, os.O_RDWR|os.O_CREATE, 0o644)
@@ -102,6 +100,21 @@ func ClaimServing(path string) (*ServingClaim, error) {
 		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
 	}
 	return &ServingClaim{f: f}, nil
+}
+
+// oneName refuses a database file with more than one name (hard links)
+// with a *ManyNamesError naming path; a symbolic link is followed, and a
+// file not there yet is no error. Open calls it too, so that no command
+// reads or writes a database through a second name while a server keeps
+// its journal under the first.
+func oneName(path string) error {
+	var st syscall.Stat_t
+	if err := syscall.Stat(path, &st); err == nil && st.Nlink > 1 {
+		return &ManyNamesError{Database: path, Links: uint64(st.Nlink)}
+	} else if err != nil && !errors.Is(err, fs.ErrNotExist) {
+		return fmt.Errorf("store: %s: %w", path, err)
+	}
+	return nil
 }
 
 // realName is the name of the file at path with every symbolic link

@@ -104,3 +104,44 @@ func TestClaimServingIsOnTheFile(t *testing.T) {
 		}
 	}
 }
+
+// TestOpenRefusesAFileWithTwoNames: every command opens its database with
+// Open, and a database with a second name (hard link) is refused by each
+// name, as serve refuses it: SQLite keeps a journal per name, so a command
+// through the other name would miss a server's commits or corrupt the
+// file. A symbolic link names the same file and one journal, and opens.
+func TestOpenRefusesAFileWithTwoNames(t *testing.T) {
+	dir := t.TempDir()
+	path := filepath.Join(dir, "parley.db")
+	db, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+	sym := filepath.Join(dir, "sym.db")
+	if err := os.Symlink(path, sym); err != nil {
+		t.Fatal(err)
+	}
+	if db, err := Open(sym); err != nil {
+		t.Fatalf("open through a symbolic link: %v", err)
+	} else {
+		db.Close()
+	}
+	hard := filepath.Join(t.TempDir(), "hard.db")
+	if err := os.Link(path, hard); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{path, hard, sym} {
+		db, err := Open(name)
+		var many *ManyNamesError
+		if !errors.As(err, &many) || many.Links != 2 || many.Database != name {
+			if err == nil {
+				db.Close()
+			}
+			t.Errorf("open %s, a file with two names: %v", name, err)
+		}
+	}
+	if _, err := os.Stat(hard + "-wal"); !os.IsNotExist(err) {
+		t.Errorf("a refused open left a journal beside the second name: %v", err)
+	}
+}

@@ -103,7 +103,11 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			return fail(stderr, "import-answers", err)
 		}
 	}
-	fmt.Fprintf(stdout, "%s %d judgements in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), ws.Round, wid, ch)
+	judgements := "judgements"
+	if len(rows) == 1 {
+		judgements = "judgement"
+	}
+	fmt.Fprintf(stdout, "%s %d %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), judgements, ws.Round, wid, ch)
 	return exitOK
 }
 

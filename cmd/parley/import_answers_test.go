@@ -49,6 +49,11 @@ func TestImportAnswers(t *testing.T) {
 	if n := len(revisionsIn(t, path, ws)); n != before {
 		t.Fatalf("--dry-run wrote %d revisions", n-before)
 	}
+	one := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n")
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", one, "--dry-run"); code != 0 ||
+		!strings.HasSuffix(out, "would save 1 judgement in round 1 of workshop "+w+", entered by the facilitator (file)\n") {
+		t.Fatalf("dry run of one row: %d %q %q", code, out, errOut)
+	}
 	code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--channel", "paper_form")
 	if code != 0 || !strings.Contains(out, "saved 2 judgements") {
 		t.Fatalf("import: %d %q %q", code, out, errOut)

@@ -353,3 +353,49 @@ func TestStoreCommandsReadFlagsInOneLine(t *testing.T) {
 		t.Errorf("export --workshop abc: exit %d, %q", code, errs)
 	}
 }
+
+// Every command that opens a database refuses one with a second name
+// (hard link), as serve does, and writes nothing: SQLite keeps a journal
+// per name, so a command through one name beside a server on the other
+// would miss the server's commits, and its own writes could corrupt the
+// file. The refusal names the file and says how to go on.
+func TestStoreCommandsRefuseADatabaseWithTwoNames(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	record := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	hard := filepath.Join(t.TempDir(), "hard.db")
+	check(t, os.Link(path, hard))
+	before, err := os.ReadFile(path)
+	check(t, err)
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,\n")
+	outDir := t.TempDir()
+	for _, name := range []string{path, hard} {
+		for _, args := range [][]string{
+			{"export", "--db", name, "--workshop", ws},
+			{"export", "--db", name, "--workshop", ws, "--format", "csv"},
+			{"backup", "--db", name, "--out", filepath.Join(outDir, "copy.db")},
+			{"import", "--db", name, "--in", record},
+			{"import-answers", "--db", name, "--workshop", ws, "--in", sheet},
+			{"facilitator-reset", "--db", name},
+		} {
+			code, out, errs := run(args...)
+			if code != exitFailure || out != "" || !strings.Contains(errs, name+" is one file with 2 names (hard links)") {
+				t.Errorf("%v: exit %d, stdout %q, stderr %q", args, code, out, errs)
+			}
+		}
+	}
+	if _, err := os.Stat(filepath.Join(outDir, "copy.db")); !os.IsNotExist(err) {
+		t.Error("a refused backup wrote its copy")
+	}
+	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
+		t.Error("a refused command changed the database")
+	}
+	for _, suffix := range []string{"-wal", "-shm"} {
+		if _, err := os.Stat(hard + suffix); !os.IsNotExist(err) {
+			t.Errorf("a refused command made %s%s", hard, suffix)
+		}
+	}
+}
