@@ -42,7 +42,7 @@ func (s *Server) routes() http.Handler {
 	r.Post("/signout", s.signOut)
 
 	r.Route("/e/{token}", func(r chi.Router) {
-		r.Use(s.requireExpert)
+		r.Use(s.requireExpert, s.sendOnce)
 		s.expertRoutes(r) // expert.go
 	})
 
@@ -50,7 +50,7 @@ func (s *Server) routes() http.Handler {
 	r.With(s.requireFacilitatorStream).Get("/w/{workshop}/events", s.liveEvents)
 
 	r.Group(func(r chi.Router) {
-		r.Use(s.requireFacilitator)
+		r.Use(s.requireFacilitator, s.sendOnce)
 		s.facilitatorRoutes(r)
 	})
 	return r

@@ -71,6 +71,9 @@ type Server struct {
 	// sheets holds answer sheets between their preview and their
 	// confirmation (facilitator_sheet.go).
 	sheets *kept[keptSheet]
+	// once holds the posts of forms sent with a key, so that a form
+	// sent twice is saved once (once.go).
+	once *sentOnce
 	// signIns limits what sign-in attempts may cost (signin_throttle.go).
 	signIns *signInThrottle
 }
@@ -82,7 +85,7 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
-		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now

@@ -1,0 +1,206 @@
+package web
+
+import (
+	"context"
+	"crypto/rand"
+	"crypto/sha256"
+	"encoding/hex"
+	"io"
+	"mime"
+	"net/http"
+	"net/url"
+	"sync"
+	"time"
+
+	"github.com/a-h/templ"
+)
+
+// One form, sent twice, is saved once. A double click on a slow button,
+// or a browser that sends a post again after a dropped connection, sends
+// the same form twice; each copy used to be saved. For most forms that
+// left a duplicate in the record (two agreed priors, two decisions of the
+// same weights), but a batch of study data was counted twice in the
+// posterior, and a second new link replaced the first.
+//
+// Every form that changes something carries a key of its own, new at
+// each rendering (onceField). The first post of a key with given values
+// runs; while it runs, a second post of the same key and values waits
+// for it, and once it has sent the browser on (303 See Other) every later
+// copy is sent to the same address without running again. A post that
+// did not send the browser on (a refused form, a failure) is forgotten,
+// so sending it again runs it again. Values that differ, such as a form
+// corrected after going back, are a new post. A post without the key (a
+// script, a page from before this version) runs as before. Keys are held
+// in memory for onceLife; a restart forgets them.
+
+// onceName is the hidden field carrying a form's key.
+const onceName = "once"
+
+const (
+	// onceLife is how long a post that was done is remembered: a
+	// browser's retry or a second click comes within seconds.
+	onceLife = 10 * time.Minute
+	// onceMax bounds the posts remembered at once; beyond it a post is
+	// not remembered (and so may run twice), never refused.
+	onceMax = 8192
+)
+
+// onceKey is a new form key: 128 random bits.
+func onceKey() string {
+	b := make([]byte, 16)
+	if _, err := rand.Read(b); err != nil {
+		// crypto/rand does not fail on Linux; without a key the form
+		// simply runs as a post without one.
+		return ""
+	}
+	return hex.EncodeToString(b)
+}
+
+// onceField is the hidden field every form that changes something
+// carries, with a key new at each rendering.
+func onceField() templ.Component {
+	return templ.ComponentFunc(func(_ context.Context, w io.Writer) error {
+		_, err := io.WriteString(w, `<input type="hidden" name="`+onceName+`" value="`+onceKey()+`"/>`)
+		return err
+	})
+}
+
+// sentOnce holds the posts that carried a form key.
+type sentOnce struct {
+	mu    sync.Mutex
+	posts map[[sha256.Size]byte]*oncePost
+}
+
+type oncePost struct {
+	done     chan struct{} // closed when the first copy has finished
+	location string        // where it sent the browser; "" when it did not
+	expires  time.Time     // set when done
+}
+
+func newSentOnce() *sentOnce {
+	return &sentOnce{posts: map[[sha256.Size]byte]*oncePost{}}
+}
+
+// begin returns the post remembered under id, and first when this call
+// made it (the caller runs the handler and calls end). remembered is
+// false when no more posts can be held: the caller runs the handler and
+// does not call end.
+func (o *sentOnce) begin(id [sha256.Size]byte, now time.Time) (p *oncePost, first, remembered bool) {
+	o.mu.Lock()
+	defer o.mu.Unlock()
+	if p, ok := o.posts[id]; ok {
+		if p.expires.IsZero() || now.Before(p.expires) {
+			return p, false, true
+		}
+		delete(o.posts, id)
+	}
+	if len(o.posts) >= onceMax {
+		for k, p := range o.posts {
+			if !p.expires.IsZero() && !now.Before(p.expires) {
+				delete(o.posts, k)
+			}
+		}
+		if len(o.posts) >= onceMax {
+			return nil, true, false
+		}
+	}
+	p = &oncePost{done: make(chan struct{})}
+	o.posts[id] = p
+	return p, true, true
+}
+
+// end records where the first copy sent the browser, or forgets the post
+// when it sent it nowhere, and lets waiting copies go on.
+func (o *sentOnce) end(id [sha256.Size]byte, p *oncePost, location string, now time.Time) {
+	o.mu.Lock()
+	if location == "" {
+		delete(o.posts, id)
+	} else {
+		p.location, p.expires = location, now.Add(onceLife)
+	}
+	o.mu.Unlock()
+	close(p.done)
+}
+
+// onceID names a post: its address, its key and all its other values.
+func onceID(r *http.Request, key string) [sha256.Size]byte {
+	values := make(url.Values, len(r.PostForm))
+	for k, v := range r.PostForm {
+		if k != onceName {
+			values[k] = v
+		}
+	}
+	h := sha256.New()
+	io.WriteString(h, r.URL.Path)
+	h.Write([]byte{0})
+	io.WriteString(h, key)
+	h.Write([]byte{0})
+	io.WriteString(h, values.Encode()) // sorted by name
+	var id [sha256.Size]byte
+	h.Sum(id[:0])
+	return id
+}
+
+// sendOnce is the middleware of the forms that change something: a
+// posted form with a key runs once (see above).
+func (s *Server) sendOnce(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		if r.Method != http.MethodPost || !urlEncoded(r) {
+			next.ServeHTTP(w, r)
+			return
+		}
+		if !parseForm(w, r) {
+			return
+		}
+		key := r.PostForm.Get(onceName)
+		if key == "" || len(key) > 64 {
+			next.ServeHTTP(w, r)
+			return
+		}
+		id := onceID(r, key)
+		p, first, remembered := s.once.begin(id, s.now())
+		if !remembered {
+			next.ServeHTTP(w, r)
+			return
+		}
+		if !first {
+			select {
+			case <-p.done:
+			case <-r.Context().Done():
+				return
+			}
+			if p.location != "" {
+				http.Redirect(w, r, p.location, http.StatusSeeOther)
+				return
+			}
+			next.ServeHTTP(w, r)
+			return
+		}
+		rw := &sentOnOrNot{ResponseWriter: w}
+		defer func() { s.once.end(id, p, rw.location, s.now()) }()
+		next.ServeHTTP(rw, r)
+	})
+}
+
+// urlEncoded says a request's body is a URL-encoded form, as every form
+// that changes something sends (the answer sheet's upload, multipart,
+// saves nothing: its confirmation has its own key, facilitator_sheet.go).
+func urlEncoded(r *http.Request) bool {
+	ct, _, err := mime.ParseMediaType(r.Header.Get("Content-Type"))
+	return err == nil && ct == "application/x-www-form-urlencoded"
+}
+
+// sentOnOrNot notes where a handler sent the browser with 303 See Other.
+type sentOnOrNot struct {
+	http.ResponseWriter
+	location string
+}
+
+func (w *sentOnOrNot) WriteHeader(code int) {
+	if code == http.StatusSeeOther {
+		w.location = w.Header().Get("Location")
+	}
+	w.ResponseWriter.WriteHeader(code)
+}
+
+func (w *sentOnOrNot) Unwrap() http.ResponseWriter { return w.ResponseWriter }

@@ -1,0 +1,245 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strconv"
+	"strings"
+	"sync"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+var (
+	postForm = regexp.MustCompile(`(?s)<form[^>]*method="post"[^>]*>.*?</form>`)
+	formKey  = regexp.MustCompile(`name="once" value="([0-9a-f]{32})"`)
+)
+
+// keyOf returns the key of the first posted form in body whose opening
+// tag contains action.
+func keyOf(t *testing.T, body, action string) string {
+	t.Helper()
+	for _, f := range postForm.FindAllString(body, -1) {
+		if strings.Contains(f[:strings.Index(f, ">")], `action="`+action+`"`) {
+			if m := formKey.FindStringSubmatch(f); m != nil {
+				return m[1]
+			}
+			t.Fatalf("the form to %s carries no key:\n%s", action, f)
+		}
+	}
+	t.Fatalf("no form to %s on the page", action)
+	return ""
+}
+
+func studyBatches(t *testing.T, h *harness, ws int64) int {
+	t.Helper()
+	d, err := h.db.StudyData(context.Background(), ws)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return len(d)
+}
+
+// A batch of study data sent twice (a double click on a slow page, a
+// browser's retry) is recorded once: both copies are sent to the study
+// page, and the posterior counts the data once. Eight copies at once are
+// one batch too. The same form corrected and sent again, or a post
+// without the form's key (a script), is recorded as before.
+func TestStudyDataSentTwiceIsRecordedOnce(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, page := h.get(sp)
+	key := keyOf(t, page, sp+"/data")
+	form := url.Values{"successes": {"3"}, "trials": {"40"}, "source": {"Site log (invented)"},
+		"observed_on": {"2026-03-31"}, onceName: {key}}
+	before := studyBatches(t, h, ws.ID)
+	var where []string
+	for range 2 {
+		res, body := h.post(sp+"/data", form)
+		if res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record data: %d %s", res.StatusCode, body)
+		}
+		where = append(where, res.Header.Get("Location"))
+	}
+	if n := studyBatches(t, h, ws.ID) - before; n != 1 || where[0] != where[1] || where[0] != sp+"#update" {
+		t.Fatalf("one form sent twice: %d batches recorded, sent to %q", n, where)
+	}
+	if _, page := h.get(sp); !strings.Contains(page, "3 successes in 40 trials") || strings.Contains(page, "in 80 trials") {
+		t.Error("the study page does not show the one batch of 3 in 40")
+	}
+
+	// Eight copies of a new rendering at once.
+	_, page = h.get(sp)
+	form.Set(onceName, keyOf(t, page, sp+"/data"))
+	form.Set("successes", "4")
+	var wg sync.WaitGroup
+	codes := make([]int, 8)
+	for i := range codes {
+		wg.Go(func() {
+			res, _ := h.post(sp+"/data", form)
+			codes[i] = res.StatusCode
+		})
+	}
+	wg.Wait()
+	for i, c := range codes {
+		if c != http.StatusSeeOther {
+			t.Errorf("copy %d: %d", i, c)
+		}
+	}
+	if n := studyBatches(t, h, ws.ID) - before; n != 2 {
+		t.Fatalf("eight copies at once: %d batches in all, want 2", n)
+	}
+
+	// The same rendering, corrected (other values), is a new post.
+	form.Set("successes", "5")
+	if res, _ := h.post(sp+"/data", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("corrected form: %d", res.StatusCode)
+	}
+	// A post without the key runs each time.
+	form.Del(onceName)
+	for range 2 {
+		if res, _ := h.post(sp+"/data", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("post without a key: %d", res.StatusCode)
+		}
+	}
+	if n := studyBatches(t, h, ws.ID) - before; n != 5 {
+		t.Fatalf("%d batches in all, want 5", n)
+	}
+}
+
+// A refused post is not remembered: the same form sent again is checked
+// again, and once corrected it is saved.
+func TestRefusedPostRunsAgain(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	_, page := h.get(qp)
+	key := keyOf(t, page, qp+"/agree")
+	priors := func() int {
+		ps, err := h.db.AgreedPriors(context.Background(), ws.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return len(ps)
+	}
+	before := priors()
+	form := url.Values{"source": {"pool"}, onceName: {key}}
+	for range 2 {
+		if res, _ := h.post(qp+"/agree", form); res.StatusCode != http.StatusUnprocessableEntity {
+			t.Fatalf("a prior without its rationale: %d", res.StatusCode)
+		}
+	}
+	form.Set("rationale", "The pool, as discussed (invented).")
+	form.Set("confirm_open", "on")
+	for range 3 {
+		if res, body := h.post(qp+"/agree", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("agree: %d %s", res.StatusCode, body)
+		}
+	}
+	if n := priors() - before; n != 1 {
+		t.Fatalf("one agreement sent three times: %d priors recorded", n)
+	}
+	evs, err := h.db.Events(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	agreed := 0
+	for _, ev := range evs {
+		if ev.Kind == workshop.EventPriorAgreed && ev.Reason == "The pool, as discussed (invented)." {
+			agreed++
+		}
+	}
+	if agreed != 1 {
+		t.Errorf("the decision log has the agreement %d times", agreed)
+	}
+}
+
+// An expert's save sent twice is one revision.
+func TestExpertSaveSentTwiceIsOneRevision(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	ex := newHarnessOn(t, h)
+	qp := strings.TrimSuffix(links[0].Path, "/") + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	_, page := ex.get(qp)
+	key := keyOf(t, page, qp+"/preview")
+	revs := func() int {
+		rs, err := h.db.Revisions(context.Background(), ws.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return len(rs)
+	}
+	before := revs()
+	form := url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"},
+		"reason": {"Field returns of a similar model (invented)."}, onceName: {key}}
+	for range 2 {
+		if res, body := ex.post(qp+"/save", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save: %d %s", res.StatusCode, body)
+		}
+	}
+	if n := revs() - before; n != 1 {
+		t.Fatalf("one save sent twice: %d revisions", n)
+	}
+}
+
+// Every form that changes something carries its key, new at each
+// rendering; the forms that do not (signing in and out, an answer sheet's
+// upload, which saves nothing, and its confirmation, which has a key of
+// its own) are the only ones without.
+func TestEveryFormThatChangesSomethingHasAKey(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ex := newHarnessOn(t, h)
+	var calibration workshop.Question
+	for _, q := range qs {
+		if q.Calibration {
+			calibration = q
+		}
+	}
+	if calibration.ID == 0 {
+		t.Fatal("the demo has no calibration question")
+	}
+	pages := []string{"/", workshopPath(ws.ID), workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/delete",
+		questionPath(ws.ID, qs[0].ID), questionPath(ws.ID, qs[0].ID) + "/edit", questionPath(ws.ID, qs[0].ID) + "/reasons",
+		studyPath(ws.ID, qs[0].ID), quickPriorsPath(ws.ID), calibrationPath(ws.ID), entryPath(ws.ID, qs[0].ID, es[0].ID),
+		workshopPath(ws.ID) + "/answers/import"}
+	exempt := regexp.MustCompile(`action="(/signin|/signout|/w/[0-9]+/answers/import(/confirm)?)"`)
+	seen := map[string]bool{}
+	forms := 0
+	check := func(path, body string) {
+		for _, f := range postForm.FindAllString(body, -1) {
+			open := f[:strings.Index(f, ">")]
+			m := formKey.FindStringSubmatch(f)
+			switch {
+			case exempt.MatchString(open):
+			case m == nil:
+				t.Errorf("%s: a form without its key: %s", path, open)
+			case seen[m[1]]:
+				t.Errorf("%s: a key used twice: %s", path, m[1])
+			default:
+				seen[m[1]] = true
+				forms++
+			}
+		}
+	}
+	for _, p := range pages {
+		res, body := h.get(p)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", p, res.StatusCode)
+		}
+		check(p, body)
+	}
+	_, body := h.post(expertActionPath(ws.ID, es[0].ID, "revoke"), url.Values{})
+	check("revoke confirmation", body)
+	if _, body := h.get(workshopPath(ws.ID)); !strings.Contains(body, `action="`+workshopPath(ws.ID)+`/round"`) {
+		t.Error("the overview has no round form")
+	}
+	eq := strings.TrimSuffix(links[0].Path, "/") + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	_, body = ex.get(eq)
+	check(eq, body)
+	_, body = ex.get(strings.TrimSuffix(links[0].Path, "/") + "/q/" + strconv.FormatInt(calibration.ID, 10))
+	check("calibration question", body)
+	if forms < 15 {
+		t.Errorf("only %d keyed forms seen", forms)
+	}
+}
