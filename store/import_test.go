@@ -50,17 +50,29 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	consensus := quantileAnswer(0.33)
 	// The pool's prior names the revisions it pooled: the active experts'
 	// latest on the question (Cela is revoked).
-	latest := map[int64]int64{}
+	// Its Beta is their pool's single Beta under the custom weights, as
+	// the record's validation checks.
+	latest := map[int64]workshop.Revision{}
 	rs, err := db.Revisions(ctx, p.w.ID)
 	must(t, err)
 	for _, rv := range rs {
 		if rv.QuestionID == p.qs[0].ID && rv.ExpertID != p.experts[2].ID {
-			latest[rv.ExpertID] = rv.ID
+			latest[rv.ExpertID] = rv
 		}
 	}
+	var dists []elicit.ScaledBeta
+	for _, e := range p.experts[:2] {
+		f, err := latest[e.ID].FitOf(p.qs[0])
+		must(t, err)
+		dists = append(dists, f.Dist)
+	}
+	pool, err := elicit.LinearPool(dists, []float64{2, 1})
+	must(t, err)
+	rep, err := pool.BestBeta()
+	must(t, err)
 	must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: p.qs[0].ID, Source: workshop.PriorFromPool,
-		Dist: elicit.Unit(elicit.Beta{Alpha: 6, Beta: 11}), Rationale: "pool", RoundOpen: true,
-		Pooled: []int64{latest[p.experts[0].ID], latest[p.experts[1].ID]}}))
+		Dist: rep.Dist, Rationale: "pool", RoundOpen: true,
+		Pooled: []int64{latest[p.experts[0].ID].ID, latest[p.experts[1].ID].ID}}))
 	// A consensus prior is its judgement's fit, as the panel's form makes it.
 	agreed, err := p.qs[0].Fit(consensus)
 	must(t, err)
@@ -427,5 +439,35 @@ func TestPooledRevisionsAreTheQuestions(t *testing.T) {
 	must(t, dst.r.QueryRowContext(ctx, `SELECT COUNT(*) FROM agreed_priors`).Scan(&n))
 	if n != 0 {
 		t.Errorf("a refused import left %d agreed priors", n)
+	}
+}
+
+// TestImportRefusesAnEditedPooledPrior: a record whose prior from the
+// pool was edited (its α, by a part in a thousand) is refused whole at the
+// prior's path; the same record unedited imports.
+func TestImportRefusesAnEditedPooledPrior(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := fullWorkshop(t, src)
+	rec, err := src.Record(ctx, p.w.ID, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ap := &rec.Questions[0].PriorHistory[0]
+	if ap.Source != workshop.PriorFromPool || len(ap.Pooled) != 2 {
+		t.Fatalf("the first prior is %s pooling %v", ap.Source, ap.Pooled)
+	}
+	ap.Dist.Alpha *= 1.001
+	dst := newDB(t)
+	var ie *elicit.InputError
+	if _, err := dst.Import(ctx, rec); !errors.As(err, &ie) || ie.Field != "questions[0].prior_history[0].dist" || ie.Rule != record.RulePoolMismatch {
+		t.Fatalf("import of an edited pooled prior: %v", err)
+	}
+	if ws, _ := dst.Workshops(ctx); len(ws) != 0 {
+		t.Errorf("a refused import left %d workshops", len(ws))
+	}
+	ap.Dist.Alpha /= 1.001
+	if _, err := dst.Import(ctx, rec); err != nil {
+		t.Errorf("the record as exported: %v", err)
 	}
 }

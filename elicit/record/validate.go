@@ -23,8 +23,10 @@ import (
 // must match the fresh one (ValidateFits). A question's agreed_prior must be the last of its
 // prior_history, with its Beta's own mean, sd and percentiles
 // (RulePriorMismatch): it is the number the record's reader was given,
-// and an import keeps the history. The other derived numbers (pools,
-// snippets) are not trusted and not checked: an import drops them. The first broken rule is
+// and an import keeps the history. A prior from the pool that names the
+// revisions it pooled must be the single Beta of their pool under its
+// weight set (RulePoolMismatch). The other derived numbers (the current
+// pools, snippets) are not trusted and not checked: an import drops them. The first broken rule is
 // returned as an *elicit.InputError whose Field is the path into the document,
 // e.g. "revisions[3].answer.values[1]".
 func (r Record) Validate() error {
@@ -190,9 +192,25 @@ func (r Record) validate(fits []elicit.Fit) error {
 			return err
 		}
 	}
+	pooledFits := map[int64]pooledFit{} // revision → its expert and the fit its panel pooled
+	for i, rv := range r.Revisions {
+		d := fits[i].Dist
+		if rv.Fit != nil {
+			d = rv.Fit.Dist // the kept fit, which the panel pooled (Revision.FitOf)
+		}
+		pooledFits[rv.ID] = pooledFit{expert: rv.ExpertID, dist: d}
+	}
+	sets := map[int64]workshop.Weights{}
+	for _, wt := range r.WeightHistory {
+		sets[wt.ID] = wt
+	}
 	for i, q := range r.Questions {
 		for j, ap := range q.PriorHistory {
-			if err := checkConsensusFit(fmt.Sprintf("questions[%d].prior_history[%d]", i, j), ap, q.Question); err != nil {
+			p := fmt.Sprintf("questions[%d].prior_history[%d]", i, j)
+			if err := checkConsensusFit(p, ap, q.Question); err != nil {
+				return err
+			}
+			if err := checkPoolPrior(p, ap, pooledFits, sets); err != nil {
 				return err
 			}
 		}
@@ -218,6 +236,49 @@ func checkConsensusFit(p string, ap workshop.AgreedPrior, q workshop.Question) e
 		!(relDiff(k.Alpha, f.Dist.Alpha) <= fitAgreement) || !(relDiff(k.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement) {
 		return inputErr(p+".dist", RuleFitMismatch, "the record says Beta(%g, %g) on [%g, %g], a fresh fit of its consensus gives Beta(%g, %g) on [%g, %g]",
 			k.Alpha, k.Beta.Beta, k.Lower, k.Upper, f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper)
+	}
+	return nil
+}
+
+// pooledFit is a revision's expert and fitted Beta, as a panel pooled it.
+type pooledFit struct {
+	expert int64
+	dist   elicit.ScaledBeta
+}
+
+// RulePoolMismatch is the rule that a prior agreed from the pool is the
+// single Beta of the pool it names.
+const RulePoolMismatch elicit.Rule = "does not match the single Beta of the pool of its pooled_revisions"
+
+// checkPoolPrior checks that a prior agreed from the pool, naming the
+// revisions it pooled, is the single Beta of their pool (elicit.LinearPool
+// of their fits, each weighted as its weight set gave the expert;
+// Pool.BestBeta), as the panel formed it: α and β to fitAgreement. A
+// prior from before Parley kept its pooled revisions names none and is
+// not checked.
+func checkPoolPrior(p string, ap workshop.AgreedPrior, fits map[int64]pooledFit, sets map[int64]workshop.Weights) error {
+	if ap.Source != workshop.PriorFromPool || len(ap.Pooled) == 0 {
+		return nil
+	}
+	wt := sets[ap.WeightSetID] // set 0, none applied: equal weights
+	dists := make([]elicit.ScaledBeta, len(ap.Pooled))
+	raw := make([]float64, len(ap.Pooled))
+	for k, id := range ap.Pooled {
+		pf := fits[id]
+		dists[k], raw[k] = pf.dist, wt.Of(pf.expert)
+	}
+	pool, err := elicit.LinearPool(dists, raw)
+	if err != nil {
+		return inputErr(p+".pooled_revisions", RulePoolMismatch, "their pool cannot be formed: %v", err)
+	}
+	rep, err := pool.BestBeta()
+	if err != nil {
+		return inputErr(p+".pooled_revisions", RulePoolMismatch, "their pool has no single Beta: %v", err)
+	}
+	if k, f := ap.Dist, rep.Dist; k.Lower != f.Lower || k.Upper != f.Upper ||
+		!(relDiff(k.Alpha, f.Alpha) <= fitAgreement) || !(relDiff(k.Beta.Beta, f.Beta.Beta) <= fitAgreement) {
+		return inputErr(p+".dist", RulePoolMismatch, "the record says Beta(%g, %g) on [%g, %g]; the pool of the revisions it names (%d) gives Beta(%g, %g) on [%g, %g]",
+			k.Alpha, k.Beta.Beta, k.Lower, k.Upper, len(ap.Pooled), f.Alpha, f.Beta.Beta, f.Lower, f.Upper)
 	}
 	return nil
 }
