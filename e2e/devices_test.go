@@ -109,6 +109,11 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td, .table-fits td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 		t.Errorf("%s at %d px: a table's cells run past the screen: %q", where, width, cut)
 	}
+	// A link drawn as a button is one box: broken over two lines, its
+	// border ran round each line's piece of it.
+	if broken := eval[[]string](p, "buttons' boxes", `Array.from(document.querySelectorAll("a.button")).filter(a => a.getClientRects().length > 1).map(a => a.textContent.trim())`); len(broken) > 0 {
+		t.Errorf("%s at %d px: a button broken over lines: %q", where, width, broken)
+	}
 	// Each value's label stands apart from the box above it, so that an
 	// expert does not read it as that box's.
 	if close := eval[[]string](p, "the answer form's spacing", `(() => {

@@ -42,6 +42,34 @@ type questionState struct {
 	History   []workshop.Revision    // this question's revisions, oldest first
 }
 
+// poolSeen names the pool a page showed: the weight set in force and
+// the revisions pooled, which fix the pool and its single Beta. The agree
+// form sends it back (fieldPoolSeen), so that a prior from the pool is
+// the one the facilitator saw: when an answer, a weight or a revocation
+// changed the pool in between, the agreement is refused and the panel
+// shows the new pool.
+func (st questionState) poolSeen() string {
+	var b strings.Builder
+	b.WriteString("w")
+	b.WriteString(strconv.FormatInt(st.Weights.ID, 10))
+	b.WriteString(" r")
+	sep := ""
+	for _, row := range st.Rows {
+		if row.Pooled && row.Revision != nil {
+			b.WriteString(sep)
+			b.WriteString(strconv.FormatInt(row.Revision.ID, 10))
+			sep = ","
+		}
+	}
+	return b.String()
+}
+
+// fieldPoolSeen is the agree form's record of the pool the page showed
+// (questionState.poolSeen). It stands in the live part of the panel,
+// tied to the form by its form attribute, so that a live update of the
+// pool updates it too.
+const fieldPoolSeen = "pool_seen"
+
 // current is the agreed prior in force, or nil.
 func (st questionState) current() *workshop.AgreedPrior {
 	if len(st.Agreed) == 0 {

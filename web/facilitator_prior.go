@@ -37,6 +37,10 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 		}
 		st := d.state(q)
 		switch {
+		case st.Rep != nil && f.Values.Get(fieldPoolSeen) != "" && f.Values.Get(fieldPoolSeen) != st.poolSeen():
+			f.set("source", "The pool changed after this page showed it (an answer was saved or revised, the weights changed, "+
+				"or an expert's access was revoked), so nothing was recorded. The panel above now shows the pool as it stands, "+
+				"with its best single Beta, Beta("+sv(st.Rep.Dist.Alpha)+", "+sv(st.Rep.Dist.Beta.Beta)+"): look at it, then record it again.")
 		case st.Rep != nil:
 			p.Dist = st.Rep.Dist
 			// The revisions the pool was formed from, as agreed: the

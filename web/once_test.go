@@ -5,6 +5,7 @@ import (
 	"net/http"
 	"net/url"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"sync"
@@ -241,5 +242,64 @@ func TestEveryFormThatChangesSomethingHasAKey(t *testing.T) {
 	check("calibration question", body)
 	if forms < 15 {
 		t.Errorf("only %d keyed forms seen", forms)
+	}
+}
+
+// A prior from the pool is the pool the facilitator saw. The panel sends
+// back, with the agree form, which pool it showed; when an answer arrives
+// between the page and the click, the agreement is refused with the
+// rationale kept and the panel shows the new pool, whose own form then
+// records it. A post without the field (a script) records the pool as
+// it stands.
+func TestAgreedPoolIsThePoolShown(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	qp := questionPath(ws.ID, qs[0].ID)
+	seenField := regexp.MustCompile(`<input type="hidden" form="agree-form" name="pool_seen" value="([^"]+)"`)
+	_, page := h.get(qp)
+	m := seenField.FindStringSubmatch(page)
+	if m == nil {
+		t.Fatal("the panel does not say which pool it shows")
+	}
+	if !strings.Contains(page, `id="agree-form"`) {
+		t.Fatal("the agree form has no id for the pool's field to name")
+	}
+	priors := func() []workshop.AgreedPrior {
+		ps, err := h.db.AgreedPriors(ctx, ws.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return ps
+	}
+	before := len(priors())
+	// An expert's answer arrives after the page was drawn.
+	rv := workshop.Revision{QuestionID: qs[0].ID, ExpertID: es[0].ID, Answer: workshop.Answer{Values: []float64{0.01, 0.03, 0.09}}}
+	if err := h.db.SaveRevision(ctx, &rv); err != nil {
+		t.Fatal(err)
+	}
+	form := url.Values{"source": {"pool"}, "rationale": {"The pool as discussed (invented)."}, "confirm_open": {"on"}, "pool_seen": {m[1]}}
+	res, body := h.post(qp+"/agree", form)
+	if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "The pool changed after this page showed it") ||
+		!strings.Contains(body, "The pool as discussed (invented).") {
+		t.Fatalf("agreeing a pool that changed since the page: %d", res.StatusCode)
+	}
+	if n := len(priors()); n != before {
+		t.Fatalf("a refused agreement recorded %d priors", n-before)
+	}
+	now := seenField.FindStringSubmatch(body)
+	if now == nil || now[1] == m[1] || !strings.Contains(now[1], strconv.FormatInt(rv.ID, 10)) {
+		t.Fatalf("the panel shown again says it shows %v (was %q, the new revision is %d)", now, m[1], rv.ID)
+	}
+	form.Set("pool_seen", now[1])
+	if res, body := h.post(qp+"/agree", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agreeing the pool shown: %d %s", res.StatusCode, body)
+	}
+	ps := priors()
+	if len(ps) != before+1 || !slices.Contains(ps[len(ps)-1].Pooled, rv.ID) {
+		t.Fatalf("the prior recorded does not pool the new answer: %+v", ps[len(ps)-1])
+	}
+	form.Del("pool_seen")
+	if res, _ := h.post(qp+"/agree", form); res.StatusCode != http.StatusSeeOther || len(priors()) != before+2 {
+		t.Fatalf("a post without the pool shown: %d", res.StatusCode)
 	}
 }
