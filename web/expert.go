@@ -388,7 +388,7 @@ func (s *Server) expertRoutes(r chi.Router) {
 	// Previews and saves go before pages when the server is busy (turns.go).
 	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
 	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
-	r.Post("/q/{qid}/preview", s.inTurn(turns.Interactive, s.expertPreviewPost))
+	r.Post("/q/{qid}/preview", s.throttlePreviews(s.inTurn(turns.Interactive, s.expertPreviewPost)))
 	r.Post("/q/{qid}/save", s.inTurn(turns.Interactive, s.expertSavePost))
 }
 

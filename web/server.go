@@ -74,6 +74,8 @@ type Server struct {
 	// once holds the posts of forms sent with a key, so that a form
 	// sent twice is saved once (once.go).
 	once *sentOnce
+	// previews limits each expert's previews (preview_throttle.go).
+	previews *previewThrottle
 	// signIns limits what sign-in attempts may cost (signin_throttle.go).
 	signIns *signInThrottle
 }
@@ -85,7 +87,7 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
-		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newPreviewThrottle(),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now

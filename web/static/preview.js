@@ -30,9 +30,19 @@
         headers: { "Content-Type": "application/x-www-form-urlencoded" },
         body: new URLSearchParams(new FormData(form)).toString()
       }).then(function (resp) {
+        if (resp.status === 429) {
+          // Over this expert's allowance of previews: keep the last
+          // picture and ask again in a moment, if nothing newer was.
+          window.setTimeout(function () {
+            if (ticket === latest) {
+              send();
+            }
+          }, 1000);
+          return null;
+        }
         return resp.text();
       }).then(function (html) {
-        if (ticket !== latest) {
+        if (html === null || ticket !== latest) {
           return;
         }
         target.innerHTML = html;

@@ -1,0 +1,61 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+)
+
+// Each expert's previews are limited: PreviewBurst at once, then one
+// every previewEvery; the allowance of one expert is not another's.
+func TestPreviewThrottleAdmit(t *testing.T) {
+	th := newPreviewThrottle()
+	now := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
+	for i := range PreviewBurst {
+		if d := th.admit(1, now); d != 0 {
+			t.Fatalf("preview %d of the burst waits %v", i+1, d)
+		}
+	}
+	if d := th.admit(1, now); d != previewEvery {
+		t.Fatalf("a preview past the burst waits %v, want %v", d, previewEvery)
+	}
+	if d := th.admit(2, now); d != 0 {
+		t.Fatalf("another expert's first preview waits %v", d)
+	}
+	if d := th.admit(1, now.Add(previewEvery)); d != 0 {
+		t.Fatalf("after %v: waits %v", previewEvery, d)
+	}
+	if d := th.admit(1, now.Add(previewEvery)); d <= 0 {
+		t.Fatal("a second preview in the same tenth of a second was admitted")
+	}
+}
+
+// A link that sends previews without pause (a script, a stuck page) is
+// answered 429 with Retry-After past its allowance, before it takes a
+// turn; the other experts' previews go on, and the refused page says
+// what to do, for an expert whose page posts without the script.
+func TestOneExpertsPreviewsCannotCrowdOutTheOthers(t *testing.T) {
+	h, _, qs, _, links := seeded(t)
+	frozen := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
+	h.srv.now = func() time.Time { return frozen } // no allowance comes back during the test
+	ex := newHarnessOn(t, h)
+	preview := func(link string) (*http.Response, string) {
+		return ex.post(strings.TrimSuffix(link, "/")+"/q/"+strconv.FormatInt(qs[0].ID, 10)+"/preview?fragment=1",
+			url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}})
+	}
+	for i := range PreviewBurst {
+		if res, body := preview(links[0].Path); res.StatusCode != http.StatusOK {
+			t.Fatalf("preview %d: %d %s", i+1, res.StatusCode, body)
+		}
+	}
+	res, body := preview(links[0].Path)
+	if res.StatusCode != http.StatusTooManyRequests || res.Header.Get("Retry-After") != "1" || !strings.Contains(body, "Nothing is lost") {
+		t.Fatalf("a preview past the allowance: %d, Retry-After %q", res.StatusCode, res.Header.Get("Retry-After"))
+	}
+	if res, body := preview(links[1].Path); res.StatusCode != http.StatusOK || !strings.Contains(body, "Beta(") {
+		t.Fatalf("another expert's preview meanwhile: %d %s", res.StatusCode, body)
+	}
+}
