@@ -27,6 +27,7 @@ const (
 // previewThrottle holds each expert's allowance of previews.
 type previewThrottle struct {
 	mu      sync.Mutex
+	burst   int
 	experts map[int64]*rate.Limiter
 }
 
@@ -34,8 +35,12 @@ type previewThrottle struct {
 // at their full allowance are dropped (they lose nothing).
 const maxThrottledExperts = 4096
 
-func newPreviewThrottle() *previewThrottle {
-	return &previewThrottle{experts: map[int64]*rate.Limiter{}}
+// newPreviewThrottle allows burst previews at once (PreviewBurst when 0).
+func newPreviewThrottle(burst int) *previewThrottle {
+	if burst <= 0 {
+		burst = PreviewBurst
+	}
+	return &previewThrottle{burst: burst, experts: map[int64]*rate.Limiter{}}
 }
 
 // admit takes one preview from the expert's allowance at now, or returns
@@ -47,12 +52,12 @@ func (t *previewThrottle) admit(expert int64, now time.Time) time.Duration {
 	if !ok {
 		if len(t.experts) >= maxThrottledExperts {
 			for id, old := range t.experts {
-				if old.TokensAt(now) >= PreviewBurst {
+				if old.TokensAt(now) >= float64(t.burst) {
 					delete(t.experts, id)
 				}
 			}
 		}
-		l = rate.NewLimiter(rate.Every(previewEvery), PreviewBurst)
+		l = rate.NewLimiter(rate.Every(previewEvery), t.burst)
 		t.experts[expert] = l
 	}
 	r := l.ReserveN(now, 1)

@@ -12,7 +12,7 @@ import (
 // Each expert's previews are limited: PreviewBurst at once, then one
 // every previewEvery; the allowance of one expert is not another's.
 func TestPreviewThrottleAdmit(t *testing.T) {
-	th := newPreviewThrottle()
+	th := newPreviewThrottle(0)
 	now := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
 	for i := range PreviewBurst {
 		if d := th.admit(1, now); d != 0 {

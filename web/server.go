@@ -39,6 +39,10 @@ type Options struct {
 	Logger *slog.Logger
 	// SecureCookies marks the session cookie Secure (TLS only).
 	SecureCookies bool
+	// PreviewBurst is how many previews an expert may ask for at once
+	// (preview_throttle.go); 0 means web.PreviewBurst. Tests that post an
+	// expert's previews in a loop raise it.
+	PreviewBurst int
 }
 
 // Server serves one Parley database to facilitators and experts.
@@ -87,7 +91,7 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
-		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newPreviewThrottle(),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newPreviewThrottle(opt.PreviewBurst),
 		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
 	if s.now == nil {
 		s.now = time.Now
