@@ -110,6 +110,12 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 // index of the first refused, as "revisions[i]"). It is for judgements
 // the facilitator imports from a file.
 func (db *DB) SaveRevisions(ctx context.Context, rs []workshop.Revision) error {
+	return db.saveRevisions(ctx, rs, nil)
+}
+
+// saveRevisions saves rs in one transaction and then runs also, when
+// given, in it with the revisions' time.
+func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also func(context.Context, *sql.Tx, time.Time) error) error {
 	type encoded struct{ values, counts string }
 	enc := make([]encoded, len(rs))
 	for i := range rs {
@@ -128,13 +134,38 @@ func (db *DB) SaveRevisions(ctx context.Context, rs []workshop.Revision) error {
 		}
 	}
 	at := now()
-	return db.writeRevision(ctx, func(tx *sql.Tx) error {
+	write := db.writeRevision
+	if also != nil {
+		write = db.write // an event is a row the cache may hold
+	}
+	return write(ctx, func(tx *sql.Tx) error {
 		for i := range rs {
 			if err := saveRevision(ctx, tx, &rs[i], enc[i].values, enc[i].counts, at); err != nil {
 				return fmt.Errorf("revisions[%d]: %w", i, err)
 			}
 		}
+		if also != nil {
+			return also(ctx, tx, at)
+		}
 		return nil
+	})
+}
+
+// SaveImportedRevisions is SaveRevisions for an answer sheet's rows: in
+// the same transaction it records EventAnswersImported for the workshop,
+// with imp as its detail and the revisions' time, so the record says
+// which file, and which rows of it, the judgements came from. All are
+// saved, or none.
+func (db *DB) SaveImportedRevisions(ctx context.Context, workshopID int64, rs []workshop.Revision, imp workshop.SheetImport) error {
+	if len(imp.Rows) != len(rs) {
+		return fmt.Errorf("store: %d revisions from %d rows of a sheet", len(rs), len(imp.Rows))
+	}
+	detail, err := json.Marshal(imp)
+	if err != nil {
+		return fmt.Errorf("store: answer sheet: %w", err)
+	}
+	return db.saveRevisions(ctx, rs, func(ctx context.Context, tx *sql.Tx, at time.Time) error {
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: workshopID, Kind: workshop.EventAnswersImported, At: at, Detail: string(detail)})
 	})
 }
 

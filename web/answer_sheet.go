@@ -3,7 +3,9 @@ package web
 import (
 	"bytes"
 	"context"
+	"crypto/sha256"
 	"encoding/csv"
+	"encoding/hex"
 	"errors"
 	"fmt"
 	"io"
@@ -426,11 +428,15 @@ const ruleSheetRound elicit.Rule = "the workshop's round is closed, so no answer
 // channel, all in one transaction or none. A refusal by the store (the
 // round closed, a question revealed or retired, an expert revoked since
 // the sheet was read) comes back naming the row it concerns.
-func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []sheetRow, channel workshop.Channel) error {
+func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []sheetRow, channel workshop.Channel, from SheetFile) error {
 	if !ws.Open && len(rows) > 0 {
 		return sheetErr(rows[0].Line, "question", ruleSheetRound, "round %d is closed", ws.Round)
 	}
-	err := st.SaveRevisions(ctx, sheetRevisions(rows, channel))
+	imp := workshop.SheetImport{SHA256: from.SHA256(), Name: from.Name, Rows: make([]int, len(rows)), Channel: channel}
+	for i, r := range rows {
+		imp.Rows[i] = r.Line
+	}
+	err := st.SaveImportedRevisions(ctx, ws.ID, sheetRevisions(rows, channel), imp)
 	var i int
 	if err == nil || !strings.HasPrefix(err.Error(), "revisions[") {
 		return err
@@ -452,6 +458,20 @@ func SaveSheet(ctx context.Context, st Store, ws workshop.Workshop, rows []sheet
 		return sheetErr(line, "expert", ruleSheetExpert, "%s", rows[i].Expert.Name)
 	}
 	return err
+}
+
+// SheetFile is an answer sheet as received: its name (empty when it was
+// pasted or read from standard input) and its text, whose SHA-256 the
+// record keeps (workshop.SheetImport).
+type SheetFile struct {
+	Name string
+	Text string
+}
+
+// SHA256 is the hex SHA-256 of the sheet's bytes.
+func (f SheetFile) SHA256() string {
+	sum := sha256.Sum256([]byte(f.Text))
+	return hex.EncodeToString(sum[:])
 }
 
 // SheetRevisions are the rows as revisions the facilitator entered from

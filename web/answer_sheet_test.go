@@ -486,13 +486,23 @@ func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 	if err := g.h.db.RevokeExpert(ctx, g.experts[1].ID, "invented: left the panel"); err != nil {
 		t.Fatal(err)
 	}
-	err = SaveSheet(ctx, g.h.db, g.ws, rows, workshop.ChannelFile)
+	err = SaveSheet(ctx, g.h.db, g.ws, rows, workshop.ChannelFile, SheetFile{Text: "invented"})
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || ie.Field != "row 4, column expert" || ie.Rule != ruleSheetExpert {
 		t.Fatalf("got %v, want row 4, column expert: %s", err, ruleSheetExpert)
 	}
 	if revs := g.revisions(t); len(revs) != 0 {
 		t.Fatalf("%d revisions kept from a refused sheet: %+v", len(revs), revs)
+	}
+	// Nor is the import recorded in the decision log.
+	evs, err := g.h.db.Events(ctx, g.ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, ev := range evs {
+		if ev.Kind == workshop.EventAnswersImported {
+			t.Fatalf("a refused sheet's import was recorded: %+v", ev)
+		}
 	}
 }
 

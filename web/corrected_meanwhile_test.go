@@ -48,6 +48,13 @@ func (c *correctedMeanwhile) SaveRevisions(ctx context.Context, rs []workshop.Re
 	return c.DB.SaveRevisions(ctx, rs)
 }
 
+func (c *correctedMeanwhile) SaveImportedRevisions(ctx context.Context, workshopID int64, rs []workshop.Revision, imp workshop.SheetImport) error {
+	if err := c.correct(); err != nil {
+		return err
+	}
+	return c.DB.SaveImportedRevisions(ctx, workshopID, rs, imp)
+}
+
 // TestSaveMeetsACorrectedQuestion: a question may be corrected in every
 // part until its first answer, so an expert's save, a facilitator's entry
 // and an answer sheet can be checked against a question that is corrected
@@ -132,7 +139,7 @@ func TestSaveMeetsACorrectedQuestion(t *testing.T) {
 		t.Fatal(err)
 	}
 	st.edit = &corrected
-	err = SaveSheet(ctx, st, ws, rows, workshop.ChannelFile)
+	err = SaveSheet(ctx, st, ws, rows, workshop.ChannelFile, SheetFile{Text: "invented"})
 	if !errors.Is(err, workshop.ErrQuestionChanged) && !strings.Contains(errString(err), string(ruleSheetChanged)) {
 		t.Errorf("a sheet meeting a corrected question: %v, want the row refused by %q", err, ruleSheetChanged)
 	}

@@ -99,6 +99,7 @@ var eventLabels = map[workshop.EventKind]string{
 	workshop.EventWorkshopEdited:   "Workshop details changed",
 	workshop.EventTruthEntered:     "True value entered (hidden)",
 	workshop.EventDataRecorded:     "Observed data recorded",
+	workshop.EventAnswersImported:  "Judgements imported from an answer sheet",
 }
 
 func eventLabel(k workshop.EventKind) string {
@@ -131,6 +132,11 @@ type eventDetail struct {
 	Successes  int    `json:"successes"`
 	Trials     int    `json:"trials"`
 	ObservedOn string `json:"observed_on"`
+	// An answer sheet's judgements (workshop.SheetImport).
+	SHA256  string           `json:"sha256"`
+	Name    string           `json:"name"`
+	Rows    []int            `json:"rows"`
+	Channel workshop.Channel `json:"channel"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'
@@ -237,6 +243,15 @@ func (w eventWriter) sentence(e workshop.Event) string {
 	case workshop.EventDataRecorded:
 		if d.Trials > 0 {
 			return fmt.Sprintf("%d successes in %d trials, observed on %s, added to the data that update the agreed prior.", d.Successes, d.Trials, d.ObservedOn)
+		}
+	case workshop.EventAnswersImported:
+		if d.SHA256 != "" && len(d.Rows) > 0 {
+			sheet := "a sheet"
+			if d.Name != "" {
+				sheet = d.Name
+			}
+			n := strconv.Itoa(len(d.Rows)) + " " + plural(len(d.Rows), "judgement", "judgements")
+			return n + ", " + plural(len(d.Rows), "row ", "rows ") + rowRanges(d.Rows) + " of " + sheet + " (SHA-256 " + d.SHA256 + "), entered by the facilitator " + channelRecorded(d.Channel) + "."
 		}
 	case workshop.EventTruthEntered:
 		return "Entered or changed, and kept hidden from the experts until it is revealed."
@@ -366,4 +381,22 @@ func rawText(m json.RawMessage) string {
 		return t
 	}
 	return "none"
+}
+
+// rowRanges writes a sheet's row numbers with runs joined: "2–5, 7, 9–10".
+func rowRanges(rows []int) string {
+	var parts []string
+	for i := 0; i < len(rows); {
+		j := i
+		for j+1 < len(rows) && rows[j+1] == rows[j]+1 {
+			j++
+		}
+		if j == i {
+			parts = append(parts, strconv.Itoa(rows[i]))
+		} else {
+			parts = append(parts, strconv.Itoa(rows[i])+"–"+strconv.Itoa(rows[j]))
+		}
+		i = j + 1
+	}
+	return strings.Join(parts, ", ")
 }

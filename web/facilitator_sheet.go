@@ -21,13 +21,17 @@ import (
 // MaxSheetRows of ordinary rows fits well within it.
 const maxSheetBytes = 1 << 20
 
+// MaxSheetBytes is maxSheetBytes for parley import-answers, which reads a
+// sheet whole to keep its SHA-256 (ReadAnswerSheet refuses a longer one).
+const MaxSheetBytes = maxSheetBytes
+
 // sheetFor is how long an uploaded sheet waits for its confirmation.
 const sheetFor = 30 * time.Minute
 
 // keptSheet is an uploaded sheet waiting for its confirmation.
 type keptSheet struct {
 	workshop int64
-	text     string
+	file     SheetFile
 	channel  workshop.Channel
 }
 
@@ -58,34 +62,34 @@ func (s *Server) renderSheet(w http.ResponseWriter, r *http.Request, status int,
 
 // readSheetUpload reads the posted sheet: a file (multipart) or text
 // pasted into the form.
-func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, bool) {
+func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, SheetFile, bool) {
 	if strings.HasPrefix(r.Header.Get("Content-Type"), "multipart/form-data") {
 		if err := r.ParseMultipartForm(maxSheetBytes); err != nil {
 			var mbe *http.MaxBytesError
 			if errors.As(err, &mbe) {
 				tooLarge(w, mbe.Limit)
-				return nil, "", false
+				return nil, SheetFile{}, false
 			}
 			http.Error(w, "The upload could not be read: "+err.Error(), http.StatusBadRequest)
-			return nil, "", false
+			return nil, SheetFile{}, false
 		}
 		// As every form: a field, the file included, sent twice is
 		// refused, not half-read (a second file was ignored in silence).
 		if !oneValueEach(w, r.MultipartForm.Value) {
-			return nil, "", false
+			return nil, SheetFile{}, false
 		}
 		files := make(map[string][]string, len(r.MultipartForm.File))
 		for name, fhs := range r.MultipartForm.File {
 			files[name] = make([]string, len(fhs))
 		}
 		if !oneValueEach(w, files) {
-			return nil, "", false
+			return nil, SheetFile{}, false
 		}
 	} else if !parseForm(w, r) {
-		return nil, "", false
+		return nil, SheetFile{}, false
 	}
 	f := newForm(r.PostForm)
-	text := f.Value("sheet")
+	text, name := f.Value("sheet"), ""
 	if r.MultipartForm != nil {
 		if files := r.MultipartForm.File["file"]; len(files) > 0 {
 			fh, err := files[0].Open()
@@ -97,7 +101,7 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 					err = nil
 					f.set("file", string(input.RuleTooLong)+" (at most 1 MiB, 1,048,576 bytes); nothing was saved")
 				} else if strings.TrimSpace(string(b)) != "" {
-					text = string(b)
+					text, name = string(b), files[0].Filename
 				}
 			}
 			if err != nil {
@@ -105,7 +109,7 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, string, boo
 			}
 		}
 	}
-	return f, text, true
+	return f, SheetFile{Name: name, Text: text}, true
 }
 
 // sheetPreview checks an uploaded sheet and shows every row with its fit,
@@ -115,16 +119,16 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	f, text, ok := readSheetUpload(w, r)
+	f, file, ok := readSheetUpload(w, r)
 	if !ok {
 		return
 	}
 	channel := workshop.Channel(f.Choice("channel", string(workshop.ChannelFile), channelNames()...))
 	v := sheetView{Workshop: ws, Form: f, Channel: channel}
-	if strings.TrimSpace(text) == "" && f.OK() {
+	if strings.TrimSpace(file.Text) == "" && f.OK() {
 		f.set("file", "choose a CSV file, or paste the sheet below")
 	}
-	rows, err := s.checkSheet(r, ws, text)
+	rows, err := s.checkSheet(r, ws, file.Text)
 	if f.OK() {
 		if err != nil {
 			if !isInputError(err) {
@@ -138,7 +142,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, http.StatusUnprocessableEntity, v)
 		return
 	}
-	key, err := s.sheets.keep(keptSheet{workshop: ws.ID, text: text, channel: channel}, s.now())
+	key, err := s.sheets.keep(keptSheet{workshop: ws.ID, file: file, channel: channel}, s.now())
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -189,9 +193,9 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
 		return
 	}
-	rows, err := s.checkSheet(r, ws, sh.text)
+	rows, err := s.checkSheet(r, ws, sh.file.Text)
 	if err == nil {
-		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel)
+		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel, sh.file)
 	}
 	if err != nil {
 		s.sheets.untake(key)

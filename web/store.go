@@ -61,6 +61,10 @@ type Store interface {
 	// SaveRevisions saves several under SaveRevision's rules, all or none;
 	// an error names the first refused as "revisions[i]: ...".
 	SaveRevisions(ctx context.Context, rs []workshop.Revision) error
+	// SaveImportedRevisions is SaveRevisions for an answer sheet's rows,
+	// recording workshop.EventAnswersImported with imp in the same
+	// transaction.
+	SaveImportedRevisions(ctx context.Context, workshopID int64, rs []workshop.Revision, imp workshop.SheetImport) error
 	Revisions(ctx context.Context, workshopID int64) ([]workshop.Revision, error) // oldest first
 	// Narrower reads for the expert's pages, which are opened many times a
 	// round: one expert's revisions (all questions, or one), and each

@@ -1,10 +1,12 @@
 package main
 
 import (
+	"bytes"
 	"context"
 	"fmt"
 	"io"
 	"os"
+	"path/filepath"
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -82,13 +84,22 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if err != nil {
 		return fail(stderr, "import-answers", err)
 	}
-	rows, err := web.ReadAnswerSheet(r, qs, es)
+	// The sheet's bytes as read, whose SHA-256 the record keeps.
+	text, err := io.ReadAll(io.LimitReader(r, web.MaxSheetBytes+1))
+	if err != nil {
+		return fail(stderr, "import-answers", badInput("in", "%v", err))
+	}
+	file := web.SheetFile{Text: string(text)}
+	if *in != "-" {
+		file.Name = filepath.Base(*in)
+	}
+	rows, err := web.ReadAnswerSheet(bytes.NewReader(text), qs, es)
 	if err != nil {
 		return fail(stderr, "import-answers", err)
 	}
 	if !ws.Open {
 		// The same refusal as the save's, named at the first row.
-		return fail(stderr, "import-answers", web.SaveSheet(ctx, db, ws, rows, ch))
+		return fail(stderr, "import-answers", web.SaveSheet(ctx, db, ws, rows, ch, file))
 	}
 	verb := "saved"
 	if *dryRun {
@@ -99,7 +110,7 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit))
 	}
 	if !*dryRun {
-		if err := web.SaveSheet(ctx, db, ws, rows, ch); err != nil {
+		if err := web.SaveSheet(ctx, db, ws, rows, ch, file); err != nil {
 			return fail(stderr, "import-answers", err)
 		}
 	}

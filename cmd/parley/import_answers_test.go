@@ -1,9 +1,14 @@
 package main
 
 import (
+	"bytes"
 	"context"
+	"crypto/sha256"
+	"encoding/hex"
+	"encoding/json"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -127,4 +132,64 @@ func TestImportAnswersRefusals(t *testing.T) {
 	if n := len(revisionsIn(t, path, ws)); n != before {
 		t.Fatalf("refused sheets wrote %d revisions", n-before)
 	}
+}
+
+// import-answers records which file the judgements came from: the
+// decision log's answers_imported event carries the SHA-256 of the
+// file's bytes (crypto/sha256 here), its name and the rows; a sheet read
+// from standard input has no name.
+func TestImportAnswersNamesItsFile(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	text := "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,From her notes (invented).\nJomo,2,0.2,0.35,0.5,\n"
+	sheet := writeSheet(t, text)
+	w := strconv.FormatInt(ws, 10)
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run"); code != 0 {
+		t.Fatalf("dry run: %s", errOut)
+	}
+	if imp := lastImport(t, path, ws); imp != nil {
+		t.Fatalf("a dry run recorded an import: %+v", imp)
+	}
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--channel", "paper_form"); code != 0 {
+		t.Fatalf("import: %s", errOut)
+	}
+	sum := sha256.Sum256([]byte(text))
+	imp := lastImport(t, path, ws)
+	if imp == nil || imp.SHA256 != hex.EncodeToString(sum[:]) || imp.Name != "answers.csv" || !slices.Equal(imp.Rows, []int{2, 3}) || imp.Channel != workshop.ChannelPaperForm {
+		t.Fatalf("recorded %+v", imp)
+	}
+	var out bytes.Buffer
+	var errb bytes.Buffer
+	stdin := "expert,question,q05,q50,q95\nJomo,Q2,0.25,0.4,0.55\n"
+	if code := dispatch([]string{"import-answers", "--db", path, "--workshop", w, "--in", "-"}, strings.NewReader(stdin), &out, &errb); code != 0 {
+		t.Fatalf("from standard input: %s", errb.String())
+	}
+	sum = sha256.Sum256([]byte(stdin))
+	if imp := lastImport(t, path, ws); imp == nil || imp.SHA256 != hex.EncodeToString(sum[:]) || imp.Name != "" || !slices.Equal(imp.Rows, []int{2}) {
+		t.Fatalf("from standard input, recorded %+v", imp)
+	}
+}
+
+// lastImport is the workshop's latest answers_imported event's detail, or
+// nil when there is none.
+func lastImport(t *testing.T, path string, ws int64) *workshop.SheetImport {
+	t.Helper()
+	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	evs, err := db.Events(context.Background(), ws)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := len(evs) - 1; i >= 0; i-- {
+		if evs[i].Kind == workshop.EventAnswersImported {
+			var imp workshop.SheetImport
+			if err := json.Unmarshal([]byte(evs[i].Detail), &imp); err != nil {
+				t.Fatal(err)
+			}
+			return &imp
+		}
+	}
+	return nil
 }

@@ -229,7 +229,26 @@ const (
 	EventWorkshopEdited   EventKind = "workshop_edited"     // detail: the fields before and after
 	EventTruthEntered     EventKind = "truth_entered"       // a true value entered or changed, still hidden
 	EventDataRecorded     EventKind = "study_data_recorded" // observed data recorded against a question's agreed prior
+	// An answer sheet's judgements saved together; detail: SheetImport.
+	EventAnswersImported EventKind = "answers_imported"
 )
+
+// SheetImport is what the record keeps of an answer sheet whose rows the
+// facilitator saved as judgements (an upload or parley import-answers):
+// enough to tell which file they came from and which row is which. The
+// judgements are the revisions saved at the event's time.
+type SheetImport struct {
+	// SHA256 is the hex SHA-256 of the sheet's bytes as Parley received
+	// them, so the file kept beside the record can be checked against it.
+	SHA256 string `json:"sha256"`
+	// Name is the file's name as given; empty for a sheet pasted into the
+	// form or read from standard input.
+	Name string `json:"name,omitempty"`
+	// Rows are the sheet's row numbers (as a spreadsheet numbers them,
+	// the header being row 1) of the judgements, in the order saved.
+	Rows    []int   `json:"rows"`
+	Channel Channel `json:"channel"`
+}
 
 // EventKinds lists every event kind, in the order they were introduced.
 var EventKinds = []EventKind{
@@ -237,7 +256,7 @@ var EventKinds = []EventKind{
 	EventTruthRevealed, EventExpertAdded, EventExpertRevoked, EventTokenReissued, EventQuestionAdded,
 	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
 	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
-	EventWorkshopEdited, EventTruthEntered, EventDataRecorded,
+	EventWorkshopEdited, EventTruthEntered, EventDataRecorded, EventAnswersImported,
 }
 
 // Event is one facilitator decision with its time and reason. Detail holds
