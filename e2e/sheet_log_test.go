@@ -1,0 +1,52 @@
+package e2e
+
+import (
+	"context"
+	"net/http"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web"
+)
+
+// TestSheetImportInTheLogInBrowser: an imported answer sheet's line in
+// the decision log and the report, with its file's 64-figure SHA-256,
+// fits a phone's screen and a laptop's without scrolling sideways.
+func TestSheetImportInTheLogInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	w := ws[0]
+	qs, _ := site.DB.Questions(ctx, w.ID)
+	es, _ := site.DB.Experts(ctx, w.ID)
+	text := "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
+	rows, err := web.ReadAnswerSheet(strings.NewReader(text), qs, es)
+	if err != nil {
+		t.Fatal(err)
+	}
+	file := web.SheetFile{Name: "hx40-phone-answers-round1-final-version-2.csv", Text: text}
+	if err := web.SaveSheet(ctx, site.DB, w, rows, workshop.ChannelPhone, file); err != nil {
+		t.Fatal(err)
+	}
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	shots := newScreenshots(t)
+	signIn(t, site, fac)
+	base := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
+	for _, width := range []int64{1366, 390} {
+		fac.viewport(width, 900, width < 1000)
+		for _, page := range []string{"/log", "/report"} {
+			if st := fac.open(base + page); st != http.StatusOK {
+				t.Fatalf("%s: %d", page, st)
+			}
+			fac.sees(page, "Judgements imported from an answer sheet", "1 judgement, row 2 of hx40-phone-answers-round1-final-version-2.csv (SHA-256 "+file.SHA256()+")")
+			fits(t, fac, page, width)
+			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
+		}
+	}
+}
