@@ -240,6 +240,8 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 			return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
 		}
 		return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
+	case input.RuleUnderflow:
+		return "“" + input.Clip(typed, 24) + "” is too close to 0 for Parley to hold: it would be read as 0. Please check it."
 	case rulePercentHere:
 		return "This question's values run " + between + ", not as percentages: please type the value without %."
 	case ruleConfidencePercent:

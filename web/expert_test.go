@@ -338,6 +338,10 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		// Issue 11: degenerate values are refused beside the field, before
 		// any fit, in an expert's words.
 		{"subnormal values", g.q, quantiles("4.9e-324", "1e-323", "1.5e-323"), "f-values-0", "too close to 0 or 1", "4.9e-324"},
+		// 1e-400 underflows to 0: it was refused as "Must be between 0
+		// and 1; you typed 1e-400", which it is.
+		{"a value that underflows", g.q, quantiles("1e-400", "0.2", "0.4"), "f-values-0", "“1e-400” is too close to 0 for Parley to hold", "1e-400"},
+		{"a percentage that underflows", g.q, quantiles("1e-322%", "20%", "40%"), "f-values-0", "“1e-322%” is too close to 0 for Parley to hold", "1e-322%"},
 		{"values too close", g.q, quantiles("0.05", "0.0500000001", "0.4"), "f-values-1", "cannot be told apart", "0.0500000001"},
 		// The four-value form's rules that its judgement checks (tails of
 		// at least 1e-12, values apart) are shown beside its own fields.

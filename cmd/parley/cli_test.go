@@ -273,6 +273,14 @@ func TestScriptingBadInput(t *testing.T) {
 		{"pool probability subnormal", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[1e-320,0.5]}`, []string{"probs[0]", string(elicit.RuleProbRange)}},
 		{"fit subnormal values", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "4.9e-324,1e-323,1.5e-323"}, "", []string{"values[0]", string(elicit.RuleValueNearBound)}},
 		{"fit probability subnormal", []string{"fit", "--probs", "1e-320,0.5", "--values", "0.1,0.2"}, "", []string{"probs[0]", string(elicit.RuleProbRange)}},
+		// A number that underflows to 0 (strconv reads 1e-400 as 0 without
+		// an error) was taken as a 0 nobody typed: on [-1, 1] the fit
+		// went through the middle value 0, and elsewhere the message
+		// said "got 0" of a number the user had typed above 0.
+		{"fit value underflows", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "-0.5,1e-400,0.5", "--lower", "-1", "--upper", "1"}, "", []string{"values[1]", string(input.RuleUnderflow), "1e-400"}},
+		{"fit bound underflows", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.2,0.5,0.9", "--lower", "1e-400"}, "", []string{"lower", string(input.RuleUnderflow)}},
+		{"prior sd underflows", []string{"prior", "--mean", "0.5", "--sd", "1e-400"}, "", []string{"sd", string(input.RuleUnderflow)}},
+		{"pool weight underflows", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":1e-400},{"alpha":3,"beta":3,"weight":1}]}`, []string{"experts[0].weight", string(input.RuleUnderflow)}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {

@@ -42,6 +42,16 @@ func TestNumber(t *testing.T) {
 		{".", 0, RuleNumberSyntax},
 		{"--1", 0, RuleNumberSyntax},
 		{"1e400", 0, elicit.RuleFinite}, // overflows float64
+		// strconv reads these as 0 without an error: refused, not read
+		// as a 0 nobody typed (issue 11: underflow refused up front).
+		{"1e-400", 0, RuleUnderflow},
+		{"-2e-324", 0, RuleUnderflow},
+		{"0.000001e-318", 0, RuleUnderflow},
+		{"0e-400", 0, ""},
+		{"-0.000e-999", 0, ""},
+		{"-0", 0, ""},
+		{"1e-320", 1e-320, ""}, // a subnormal is held; its field's rules judge it
+		{"4.9e-324", 5e-324, ""},
 		{"½", 0, RuleNumberSyntax},
 		{"٣", 0, RuleNumberSyntax}, // Arabic-Indic digit
 	}

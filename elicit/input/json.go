@@ -108,7 +108,8 @@ const maxKeyShown = 80
 // layout does not have, a string that is not valid UTF-8 or escapes half
 // a surrogate pair and a control character other than newline, carriage
 // return and tab in any string or key (RuleTextValid), a value of the
-// wrong JSON type, a number beyond float64 (elicit.RuleFinite), and
+// wrong JSON type, a number beyond float64 (elicit.RuleFinite) or one
+// other than 0 that float64 holds only as 0 (RuleUnderflow, 1e-400), and
 // arrays and objects nested more than MaxJSONDepth deep (RuleJSONDepth),
 // and more values than the layout's MaxValues (RuleJSONValues). Each
 // error is an *elicit.InputError naming the path of the key or value, as
@@ -361,8 +362,12 @@ func (s *jsonScanner) checkType(t reflect.Type, tok json.Token) error {
 	case json.Number:
 		switch t.Kind() {
 		case reflect.Float32, reflect.Float64:
-			if _, err := strconv.ParseFloat(string(tok), t.Bits()); err != nil {
+			v, err := strconv.ParseFloat(string(tok), t.Bits())
+			if err != nil {
 				return s.err(elicit.RuleFinite, "got %s", Clip(string(tok), MaxNumberLen))
+			}
+			if roundsToZero(string(tok), v) {
+				return s.err(RuleUnderflow, "got %s", Clip(string(tok), MaxNumberLen))
 			}
 			return nil
 		case reflect.Int, reflect.Int8, reflect.Int16, reflect.Int32, reflect.Int64:

@@ -74,6 +74,8 @@ func TestScanJSONRefuses(t *testing.T) {
 		{`{"flag":"yes"}`, "flag", "type"},
 		{`[]`, "doc", "type"},
 		{`{"main":{"size":1e400}}`, "main.size", elicit.RuleFinite},
+		{`{"main":{"size":1e-400}}`, "main.size", RuleUnderflow}, // read as 0 by strconv, without an error
+		{`{"parts":[{"size":-0.` + strings.Repeat("0", 400) + `1}]}`, "parts[0].size", RuleUnderflow},
 		{`{"parts":[{"note":"a\u0000b"}]}`, "parts[0].note", RuleTextValid},
 		{"{\"parts\":[{\"note\":\"a\xffb\"}]}", "parts[0].note", RuleTextValid},
 		{`{"parts":[{"note":"a\udc00b"}]}`, "parts[0].note", RuleTextValid},

@@ -15,6 +15,11 @@ import (
 // plain decimal number.
 const RuleNumberSyntax elicit.Rule = "must be a plain decimal number such as 0.25 or 2.5e-3 (a point for decimals, no thousands separators)"
 
+// RuleUnderflow is broken by a number other than 0 that is too small in
+// size for a float64 (1e-400): it would be read as 0, a value nobody
+// typed.
+const RuleUnderflow elicit.Rule = "is too close to 0 to be held: it would be read as 0 (a number other than 0 must be at least 5e-324 in size)"
+
 // Limits on typed numbers.
 const (
 	MaxNumberLen = 64 // characters of one number, after trimming spaces
@@ -32,7 +37,8 @@ var plainNumber = regexp.MustCompile(`^[+-]?(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[
 // spaces are ignored; anything else that is not a plain decimal number is
 // an *elicit.InputError naming the field: elicit.RuleRequired when empty,
 // RuleNumberSyntax for bad syntax or more than MaxNumberLen characters,
-// elicit.RuleFinite beyond the float64 range (1e400).
+// elicit.RuleFinite beyond the float64 range (1e400), RuleUnderflow for a
+// number other than 0 that float64 holds only as 0 (1e-400).
 func Number(field, raw string) (float64, error) {
 	s := strings.TrimSpace(raw)
 	if s == "" {
@@ -45,32 +51,61 @@ func Number(field, raw string) (float64, error) {
 	if err != nil || math.IsInf(v, 0) || math.IsNaN(v) {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
 	}
+	if roundsToZero(s, v) {
+		return 0, &elicit.InputError{Field: field, Rule: RuleUnderflow, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
+	}
 	return v, nil
+}
+
+// roundsToZero reports whether the decimal s, which strconv read as v,
+// is a number other than 0 that a float64 holds only as 0: strconv
+// returns 0 without an error for 1e-400, where it returns ±Inf with one
+// for 1e400. A subnormal (1e-320) is held, inexactly, and is left to the
+// rules of the field it is typed in.
+func roundsToZero(s string, v float64) bool {
+	if v != 0 {
+		return false
+	}
+	if i := strings.IndexAny(s, "eE"); i >= 0 {
+		s = s[:i]
+	}
+	return strings.ContainsAny(s, "123456789")
 }
 
 // Percent parses raw as Number does, a percentage, and returns it as a
 // proportion: the float64 nearest the typed decimal divided by 100, so
 // 28.81 is 0.2881 exactly as typed, where 28.81 / 100 in floating point
 // is 0.28809999999999997 (the typed number is rounded once, then the
-// quotient again). The field and the rules are Number's.
+// quotient again). The field and the rules are Number's; a percentage
+// whose proportion is too small to hold (1e-323%) breaks RuleUnderflow.
 func Percent(field, raw string) (float64, error) {
 	v, err := Number(field, raw)
 	if err != nil {
 		return 0, err
 	}
 	s := strings.TrimSpace(raw)
+	if p := percentOf(v, s); p != 0 || v == 0 {
+		return p, nil
+	}
+	return 0, &elicit.InputError{Field: field, Rule: RuleUnderflow, Detail: fmt.Sprintf("got %q%%", Clip(s, 24))}
+}
+
+// percentOf is the float64 nearest the decimal s over 100; v is s as a
+// float64.
+func percentOf(v float64, s string) float64 {
 	mant, exp := s, 0
 	if i := strings.IndexAny(s, "eE"); i >= 0 {
 		mant = s[:i]
+		var err error
 		if exp, err = strconv.Atoi(s[i+1:]); err != nil {
-			return v / 100, nil // an exponent beyond int: 0 or out of range either way
+			return v / 100 // an exponent beyond int: 0 or out of range either way
 		}
 	}
 	p, err := strconv.ParseFloat(mant+"e"+strconv.Itoa(exp-2), 64)
 	if err != nil {
-		return v / 100, nil
+		return v / 100
 	}
-	return p, nil
+	return p
 }
 
 // Whole parses raw as a whole number in [min, max]: digits only (no sign,

@@ -39,6 +39,13 @@ func TestPercentIsTheTypedDecimalOver100(t *testing.T) {
 	if got, _ := Percent("x", "28.81"); got != 0.2881 {
 		t.Errorf("28.81%% is %v, want 0.2881 as typed", got)
 	}
+	for _, raw := range []string{"1e-322", "4.9e-324", "1e-400"} {
+		// 1e-322% is a proportion below the smallest float64: read as 0.
+		var ie *elicit.InputError
+		if v, err := Percent("values[0]", raw); !errors.As(err, &ie) || ie.Rule != RuleUnderflow || ie.Field != "values[0]" {
+			t.Errorf("%q%%: %v, %v; want values[0] refused by RuleUnderflow", raw, v, err)
+		}
+	}
 	for _, raw := range []string{"", "abc", "5%", "1e400", "NaN"} {
 		if _, err := Percent("values[0]", raw); err == nil {
 			t.Errorf("%q accepted", raw)
