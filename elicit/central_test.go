@@ -2,6 +2,7 @@ package elicit
 
 import (
 	"errors"
+	"math"
 	"testing"
 )
 
@@ -11,9 +12,15 @@ import (
 // criterion's confidence lies in [MinProb, 1 − MinProb]; beyond, each is
 // refused naming its own field (review of the input rules: 1 − 1e-16
 // used to pass as a coverage or a sample-size level, and 1e-320 as a
-// confidence).
+// confidence). The bounds themselves are taken: MaxCentral, 1 − 2e-12,
+// as typed (0.999999999998), whose float64 tail is 2.2e-17 short of
+// 1e-12 and was refused, though its rule said "at most 1 − 2e-12"; and
+// MinProb and 1 − MinProb for the criterion. The float64 just beyond
+// each is refused.
 func TestCentralCoveragesStayInTheEnvelope(t *testing.T) {
-	const ok, tooClose = 0.99999999999, 0.9999999999999999 // tails 5e-12 and 5.6e-17
+	const tooClose = 0.9999999999999999 // tail 5.6e-17
+	central := []float64{0.99999999999, MaxCentral, 0.999999999998}
+	beyond := []float64{tooClose, math.Nextafter(MaxCentral, 1)}
 	goal := func(level float64) error {
 		return SampleSizeGoal{Criterion: CriterionALC, Interval: IntervalEqual, Level: level, Length: 0.05}.Validate()
 	}
@@ -25,22 +32,27 @@ func TestCentralCoveragesStayInTheEnvelope(t *testing.T) {
 		check func(c float64) error
 		field string
 		rule  Rule
+		good  []float64
 		bad   []float64
 	}{
-		{"interval by quantiles", func(c float64) error { _, err := FromIntervalQuantiles(0.03, 0.12, c); return err }, "coverage", RuleCentralTails, []float64{tooClose}},
-		{"interval by moments", func(c float64) error { _, err := FromIntervalMoments(0.03, 0.12, c); return err }, "coverage", RuleCentralTails, []float64{tooClose}},
+		{"interval by quantiles", func(c float64) error { _, err := FromIntervalQuantiles(0.03, 0.12, c); return err }, "coverage", RuleCentralTails, central, beyond},
+		{"interval by moments", func(c float64) error { _, err := FromIntervalMoments(0.03, 0.12, c); return err }, "coverage", RuleCentralTails, central, beyond},
 		{"interval on a scale", func(c float64) error {
 			_, err := Construct(ConstructionInput{Method: MethodIntervalQuantiles, Low: 3, High: 12, Coverage: c, Lower: 0, Upper: 100})
 			return err
-		}, "coverage", RuleCentralTails, []float64{tooClose}},
-		{"sample-size level", goal, "level", RuleCentralTails, []float64{tooClose}},
-		{"credible level", func(c float64) error { _, _, err := EqualTailed(Beta{Alpha: 2, Beta: 38}, c); return err }, "level", RuleCentralTails, []float64{tooClose}},
-		{"four-value confidence", func(c float64) error { _, err := FourValue(0.1, 0.4, 0.2, c, 0, 1); return err }, "confidence", RuleCentralTails, []float64{tooClose}},
-		{"success criterion's confidence", crit, "confidence", RuleProbRange, []float64{tooClose, 1e-320, 1e-13}},
+		}, "coverage", RuleCentralTails, central, beyond},
+		{"sample-size level", goal, "level", RuleCentralTails, central, beyond},
+		{"credible level", func(c float64) error { _, _, err := EqualTailed(Beta{Alpha: 2, Beta: 38}, c); return err }, "level", RuleCentralTails, central, beyond},
+		{"four-value confidence", func(c float64) error { _, err := FourValue(0.1, 0.4, 0.2, c, 0, 1); return err }, "confidence", RuleCentralTails, central, beyond},
+		{"success criterion's confidence", crit, "confidence", RuleProbRange,
+			[]float64{0.99999999999, MinProb, 1 - MinProb, 0.999999999999, 1e-12},
+			[]float64{tooClose, 1e-320, 1e-13, math.Nextafter(MinProb, 0), math.Nextafter(1-MinProb, 1)}},
 	}
 	for _, c := range cases {
-		if err := c.check(ok); err != nil {
-			t.Errorf("%s: %v refused: %v", c.name, ok, err)
+		for _, v := range c.good {
+			if err := c.check(v); err != nil {
+				t.Errorf("%s: %v refused: %v", c.name, v, err)
+			}
 		}
 		for _, v := range c.bad {
 			var ie *InputError

@@ -193,7 +193,7 @@ func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgeme
 	if err := checkCentral("confidence", confidence); err != nil {
 		return Judgement{}, err
 	}
-	pl, ph := (1-confidence)/2, (1+confidence)/2
+	pl, ph := centralTails(confidence)
 	if !(pl < 0.5 && ph > 0.5 && ph < 1) {
 		return Judgement{}, inputErr("confidence", RuleProbOpen, "%v is too close to 0 or 1 to give distinct tail probabilities", confidence)
 	}

@@ -61,10 +61,19 @@ func checkData(prior Beta, successes, trials int) error {
 // checkLevel checks a credible level (checkCentral).
 func checkLevel(level float64) error { return checkCentral("level", level) }
 
+// MaxCentral is the largest coverage of a central interval, 1 − 2e-12:
+// each tail (1 − c)/2 at least MinProb, the accuracy envelope of
+// quantiles. As a float64 it is the number typed as 0.999999999998, whose
+// tail computed in float64, (1 − c)/2 = 9.99978e-13, falls short of
+// MinProb by the rounding of c alone (2.2e-17); it is taken, as its rule
+// says (centralTails).
+const MaxCentral = 1 - 2*MinProb
+
 // checkCentral checks the coverage of a central interval (a credible
 // level, an interval's coverage, a four-value confidence): finite,
-// strictly inside (0, 1), and leaving tails (1 − c)/2 of at least
-// MinProb, the accuracy envelope of quantiles.
+// strictly inside (0, 1), and at most MaxCentral. A comparison of the
+// computed tail with MinProb refused MaxCentral itself, the largest
+// value the rule names.
 func checkCentral(field string, c float64) error {
 	if math.IsNaN(c) || math.IsInf(c, 0) {
 		return inputErr(field, RuleFinite, "got %v", c)
@@ -72,10 +81,18 @@ func checkCentral(field string, c float64) error {
 	if !(c > 0 && c < 1) {
 		return inputErr(field, RuleProbOpen, "got %v", c)
 	}
-	if (1-c)/2 < MinProb {
+	if c > MaxCentral {
 		return inputErr(field, RuleCentralTails, "each tail (1 - %s)/2 = %v is below %v", field, (1-c)/2, MinProb)
 	}
 	return nil
+}
+
+// centralTails are the probabilities below and above a central interval
+// of coverage c ≤ MaxCentral: (1 − c)/2 and (1 + c)/2, held within
+// [MinProb, 1 − MinProb], which only the rounding of c at MaxCentral
+// itself leaves (by 2.2e-17).
+func centralTails(c float64) (lo, hi float64) {
+	return max((1-c)/2, MinProb), min((1+c)/2, 1-MinProb)
 }
 
 // EqualTailed is the equal-tailed credible interval with coverage level:

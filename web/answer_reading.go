@@ -193,7 +193,7 @@ func comparedWith(field string) string {
 }
 
 // confidenceMaxPercent is the largest confidence the four-value form
-// takes, in percent: 1 − 2e-12 (elicit.RuleCentralTails).
+// takes, in percent: elicit.MaxCentral, 1 − 2e-12 (elicit.RuleCentralTails).
 const confidenceMaxPercent = "99.9999999998"
 
 // answerField is the form field of an elicit field for q's form, or ""

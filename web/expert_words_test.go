@@ -2,12 +2,15 @@ package web
 
 import (
 	"context"
+	"errors"
 	"net/http"
 	"net/url"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -291,5 +294,41 @@ func TestHistoryInWords(t *testing.T) {
 		if got := answerInWords(c.q, c.a); got != c.want {
 			t.Errorf("%s: got %q, want %q", c.q.Format, got, c.want)
 		}
+	}
+}
+
+// The largest confidence the form names, 99.9999999998%, is taken by
+// every door that reads a confidence: the expert's form and the answer
+// sheet (its tails of 1e-12 were refused by 2.2e-17 of float64 rounding,
+// beside the message "Must be at most 99.9999999998%"); the next one up
+// is refused by both with that message.
+func TestTheLargestConfidenceIsTaken(t *testing.T) {
+	g := newExpertRig(t)
+	form := func(c string) url.Values {
+		return url.Values{"lowest": {"0.02"}, "highest": {"0.6"}, "best": {"0.2"}, "confidence": {c}}
+	}
+	qs := []workshop.Question{g.qi}
+	es := []workshop.Expert{g.experts[0]}
+	sheet := func(c string) error {
+		_, err := ReadAnswerSheet(strings.NewReader("expert,question,lowest,highest,best,confidence\nid:"+
+			strconv.FormatInt(g.experts[0].ID, 10)+",id:"+strconv.FormatInt(g.qi.ID, 10)+",0.02,0.6,0.2,"+c+"\n"), qs, es)
+		return err
+	}
+	for _, c := range []string{"99.9999999998", "99.9999999998%"} {
+		r, body := g.post(g.qpath(0, g.qi)+"/preview", form(c))
+		if msg := shownError(body, "f-confidence"); r.StatusCode != http.StatusOK || msg != "" {
+			t.Errorf("form, confidence %s: status %d, %q", c, r.StatusCode, msg)
+		}
+		if err := sheet(c); err != nil {
+			t.Errorf("sheet, confidence %s: %v", c, err)
+		}
+	}
+	const over = "99.99999999981"
+	if _, body := g.post(g.qpath(0, g.qi)+"/preview", form(over)); !strings.Contains(shownError(body, "f-confidence"), "Must be at most 99.9999999998%") {
+		t.Errorf("form, confidence %s: %q", over, shownError(body, "f-confidence"))
+	}
+	var ie *elicit.InputError
+	if err := sheet(over); !errors.As(err, &ie) || ie.Rule != elicit.RuleCentralTails || !strings.Contains(ie.Detail, "at most 99.9999999998") {
+		t.Errorf("sheet, confidence %s: %v", over, err)
 	}
 }

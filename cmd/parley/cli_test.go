@@ -306,6 +306,30 @@ func TestScriptingBadInput(t *testing.T) {
 	}
 }
 
+// The largest central coverage the rule names, 1 − 2e-12 (typed
+// 0.999999999998), is taken by every command that reads one; it was
+// refused with "at most 1 − 2e-12" by 2.2e-17 of float64 rounding in its
+// tail. The float64 above it is refused.
+func TestTheLargestCoverageIsTaken(t *testing.T) {
+	for _, args := range []func(c string) []string{
+		func(c string) []string {
+			return []string{"update", "--alpha", "2", "--beta", "3", "--successes", "1", "--trials", "10", "--level", c}
+		},
+		func(c string) []string { return []string{"prior", "--interval", "0.03,0.12", "--coverage", c} },
+		func(c string) []string {
+			return []string{"prior", "--interval", "0.03,0.12", "--coverage", c, "--method", "moments"}
+		},
+	} {
+		if code, _, errOut := runCLI(t, "", args("0.999999999998")...); code != exitOK {
+			t.Errorf("%v: exit %d, %s", args("0.999999999998"), code, errOut)
+		}
+		above := args("0.9999999999980001")
+		if code, _, errOut := runCLI(t, "", above...); code != exitBadInput || !strings.Contains(errOut, string(elicit.RuleCentralTails)) {
+			t.Errorf("%v: exit %d, %s", above, code, errOut)
+		}
+	}
+}
+
 func TestScriptingBinary(t *testing.T) {
 	// The real binary: exit status and stderr as a shell sees them.
 	if testing.Short() {
