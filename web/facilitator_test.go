@@ -734,3 +734,21 @@ func TestPoolNamedByItsWeights(t *testing.T) {
 		t.Error("the report's picture does not name the Custom-weight pool")
 	}
 }
+
+// A chips question whose bounds lie far from 0 for their width (a
+// pressure between 1000 and 1001 kPa, invented) takes Parley's default
+// bins when its edges are left blank: they were all rounded onto 1000
+// and 1001, and the form refused bin_edges, a field left empty.
+func TestDefaultBinsOnBoundsFarFromZero(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	form := url.Values{"wording": {"Pressure at the outlet?"}, "quantity": {"outlet pressure"}, "units": {"kPa"},
+		"lower": {"1000"}, "upper": {"1001"}, "format": {"chips"}, "bin_edges": {""}, "chips": {"24"}}
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add question: %d, bin_edges: %q", res.StatusCode, shownError(body, inputID("bin_edges")))
+	}
+	all, _ := h.db.Questions(context.Background(), ws.ID)
+	q := all[len(all)-1]
+	if got := fmt.Sprint(q.BinEdges); got != "[1000 1000.125 1000.25 1000.375 1000.5 1000.625 1000.75 1000.875 1001]" {
+		t.Errorf("bins stored as %s", got)
+	}
+}

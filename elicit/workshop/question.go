@@ -150,14 +150,20 @@ const (
 )
 
 // DefaultBinEdges are DefaultBins equal bins from lower to upper, each
-// inner edge rounded to four significant figures so the labels read
-// cleanly; lower and upper stay exact.
+// inner edge rounded to four significant figures of the bins' width so
+// the labels read cleanly (0.125, 12.5, 1000.125); lower and upper stay
+// exact. Four significant figures of the edge itself put every inner
+// edge of bounds 1000 and 1001 at 1000 or 1001 and of 123456 and 123457
+// at 123500, beyond the upper bound, so the question's own default broke
+// its rules for bins.
 func DefaultBinEdges(lower, upper float64) []float64 {
 	edges := make([]float64, DefaultBins+1)
+	width := (upper - lower) / DefaultBins
 	for i := range edges {
 		x := lower + (upper-lower)*float64(i)/DefaultBins
-		if i > 0 && i < DefaultBins {
-			x, _ = strconv.ParseFloat(strconv.FormatFloat(x, 'g', 4, 64), 64)
+		if i > 0 && i < DefaultBins && x != 0 {
+			digits := 4 + int(math.Floor(math.Log10(math.Abs(x)))-math.Floor(math.Log10(width)))
+			x, _ = strconv.ParseFloat(strconv.FormatFloat(x, 'g', min(max(digits, 4), 17), 64), 64)
 		}
 		edges[i] = x
 	}

@@ -2,6 +2,7 @@ package workshop
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"reflect"
 	"strings"
@@ -194,5 +195,36 @@ func checkRule(t *testing.T, err error, field string, rule elicit.Rule) {
 	}
 	if ie.Field != field || ie.Rule != rule {
 		t.Errorf("got %s/%q, want %s/%q (%v)", ie.Field, ie.Rule, field, rule, err)
+	}
+}
+
+// Parley's default bins keep the rules a facilitator's own bins must:
+// on bounds far from 0 compared with their width, rounding each inner
+// edge to four significant figures of itself made equal edges (1000 and
+// 1001: 1000, 1000, …, 1001) or edges beyond the upper bound (123456 and
+// 123457: 123500), and the question was refused for a field left blank.
+// The eighths of [0, 1] and of [10, 50] stay as they read.
+func TestDefaultBinEdgesKeepTheRulesOfBins(t *testing.T) {
+	for _, b := range [][2]float64{
+		{0, 1}, {10, 50}, {-1, 1}, {0, 8.0 / 3}, {1000, 1001}, {123456, 123457}, {0.001, 0.0010001},
+		{1, 1 + 1e-12}, {-1e300, 1e300}, {1e-300, 3e-300}, {-3, 1e300},
+	} {
+		q := Question{Wording: "w", Quantity: "q", Lower: b[0], Upper: b[1], Format: FormatChips,
+			BinEdges: DefaultBinEdges(b[0], b[1]), Chips: DefaultChips}
+		if err := q.Validate(); err != nil {
+			t.Errorf("bounds %v: default bins %v refused: %v", b, q.BinEdges, err)
+		}
+	}
+	for _, c := range []struct {
+		lower, upper float64
+		want         string
+	}{
+		{0, 1, "[0 0.125 0.25 0.375 0.5 0.625 0.75 0.875 1]"},
+		{10, 50, "[10 15 20 25 30 35 40 45 50]"},
+		{1000, 1001, "[1000 1000.125 1000.25 1000.375 1000.5 1000.625 1000.75 1000.875 1001]"},
+	} {
+		if got := fmt.Sprint(DefaultBinEdges(c.lower, c.upper)); got != c.want {
+			t.Errorf("default bins of [%v, %v]: %s, want %s", c.lower, c.upper, got, c.want)
+		}
 	}
 }
