@@ -6,7 +6,6 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"math"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -104,9 +103,6 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]worksho
 // (workshop.ErrAnswersFrozen). Saves and the reveal go through the one
 // writer, so no save slips in between.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
-	if math.IsNaN(value) || math.IsInf(value, 0) {
-		return &elicit.InputError{Field: "true_value", Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", value)}
-	}
 	return db.write(ctx, func(tx *sql.Tx) error {
 		q, err := scanQuestion(tx.QueryRowContext(ctx,
 			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
@@ -120,9 +116,11 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			return &elicit.InputError{Field: "true_value", Rule: elicit.RuleUnknown,
 				Detail: fmt.Sprintf("question %d is not a calibration question", questionID)}
 		}
-		if value < q.Lower || value > q.Upper {
-			return &elicit.InputError{Field: "true_value", Rule: elicit.RuleValueInBounds,
-				Detail: fmt.Sprintf("%v not inside [%v, %v]", value, q.Lower, q.Upper)}
+		// The question's own rule: strictly inside its bounds, as the
+		// question editor and the import hold it (this took the bounds
+		// themselves).
+		if err := q.CheckTrueValue(value); err != nil {
+			return err
 		}
 		// A value the experts have seen is changed only in the open: as a
 		// reveal, whose event carries the new value. A caller that read the

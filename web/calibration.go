@@ -281,8 +281,10 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	value := f.Float("true_value")
-	if f.Error("true_value") == "" && !(value > q.Lower && value < q.Upper) {
-		f.set("true_value", "must lie strictly inside the question's bounds ("+fv(q.Lower)+", "+fv(q.Upper)+")")
+	if f.Error("true_value") == "" {
+		if err := q.CheckTrueValue(value); err != nil {
+			f.set("true_value", "must lie strictly inside the question's bounds ("+fv(q.Lower)+", "+fv(q.Upper)+")")
+		}
 	}
 	// A revealed value is visible to the experts, so changing it is
 	// recorded as a reveal, with its reason.

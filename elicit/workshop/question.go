@@ -74,12 +74,21 @@ func (q Question) Validate() error {
 		return inputErr("format", elicit.RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
 	}
 	if t := q.TrueValue; t != nil {
-		if math.IsNaN(*t) || math.IsInf(*t, 0) {
-			return inputErr("true_value", elicit.RuleFinite, "got %v", *t)
-		}
-		if !(*t > q.Lower && *t < q.Upper) {
-			return inputErr("true_value", elicit.RuleValueInBounds, "%v not inside (%v, %v)", *t, q.Lower, q.Upper)
-		}
+		return q.CheckTrueValue(*t)
+	}
+	return nil
+}
+
+// CheckTrueValue checks a calibration question's true value, the one
+// rule for it whether it comes with the question, is set or revealed
+// later, or is imported: finite and strictly inside (Lower, Upper). Errors
+// name "true_value".
+func (q Question) CheckTrueValue(t float64) error {
+	if math.IsNaN(t) || math.IsInf(t, 0) {
+		return inputErr("true_value", elicit.RuleFinite, "got %v", t)
+	}
+	if !(t > q.Lower && t < q.Upper) {
+		return inputErr("true_value", elicit.RuleValueInBounds, "%v not inside (%v, %v)", t, q.Lower, q.Upper)
 	}
 	return nil
 }
