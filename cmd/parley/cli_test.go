@@ -280,6 +280,7 @@ func TestScriptingBadInput(t *testing.T) {
 		{"fit value underflows", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "-0.5,1e-400,0.5", "--lower", "-1", "--upper", "1"}, "", []string{"values[1]", string(input.RuleUnderflow), "1e-400"}},
 		{"fit bound underflows", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.2,0.5,0.9", "--lower", "1e-400"}, "", []string{"lower", string(input.RuleUnderflow)}},
 		{"prior sd underflows", []string{"prior", "--mean", "0.5", "--sd", "1e-400"}, "", []string{"sd", string(input.RuleUnderflow)}},
+		{"pool number longer than a form takes", []string{"pool"}, `{"experts":[{"alpha":2.` + strings.Repeat("0", 70) + `,"beta":3}]}`, []string{"experts[0].alpha", string(input.RuleNumberSyntax), "72 characters, at most 64"}},
 		{"pool weight underflows", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":1e-400},{"alpha":3,"beta":3,"weight":1}]}`, []string{"experts[0].weight", string(input.RuleUnderflow)}},
 	}
 	for _, tc := range tests {

@@ -58,7 +58,7 @@ func TestDocumentedLimitsAreTheCodes(t *testing.T) {
 		"input.MaxDetail": input.MaxDetail, "workshop.MaxRounds": workshop.MaxRounds,
 		"workshop.MaxChips": workshop.MaxChips, "input.MaxListItems": input.MaxListItems,
 		"input.MaxJSONDepth": input.MaxJSONDepth, "input.MaxJSONValues": input.MaxJSONValues,
-		"input.MaxJSONDecoded": input.MaxJSONDecoded >> 20,
+		"input.MaxJSONDecoded": input.MaxJSONDecoded >> 20, "input.MaxNumberLen": input.MaxNumberLen,
 	}
 	seen := map[string]bool{}
 	for _, m := range regexp.MustCompile("([\\d,]+)(?: \\w+)? \\(`((?:input|workshop)\\.Max\\w+)`").FindAllStringSubmatch(string(dev), -1) {

@@ -108,8 +108,9 @@ const maxKeyShown = 80
 // layout does not have, a string that is not valid UTF-8 or escapes half
 // a surrogate pair and a control character other than newline, carriage
 // return and tab in any string or key (RuleTextValid), a value of the
-// wrong JSON type, a number beyond float64 (elicit.RuleFinite) or one
-// other than 0 that float64 holds only as 0 (RuleUnderflow, 1e-400), and
+// wrong JSON type, a number longer than MaxNumberLen characters
+// (RuleNumberSyntax), beyond float64 (elicit.RuleFinite) or other than 0
+// but held by float64 only as 0 (RuleUnderflow, 1e-400), and
 // arrays and objects nested more than MaxJSONDepth deep (RuleJSONDepth),
 // and more values than the layout's MaxValues (RuleJSONValues). Each
 // error is an *elicit.InputError naming the path of the key or value, as
@@ -360,6 +361,11 @@ func (s *jsonScanner) checkType(t reflect.Type, tok json.Token) error {
 		}
 		got = "string"
 	case json.Number:
+		if len(tok) > MaxNumberLen {
+			// The length limit of a typed number, which a form, a flag
+			// and a sheet hold: 0.01 followed by 100,000 zeros was taken.
+			return s.err(RuleNumberSyntax, "%d characters, at most %d", len(tok), MaxNumberLen)
+		}
 		switch t.Kind() {
 		case reflect.Float32, reflect.Float64:
 			v, err := strconv.ParseFloat(string(tok), t.Bits())

@@ -43,8 +43,10 @@ func TestScanJSONAccepts(t *testing.T) {
 		`{}`,
 		`{"shared":1,"parts":[{"size":1.5,"note":"a\tb"},{"size":-2e300}],"main":{"size":0},"by_id":{"21":3},` +
 			`"at":"2026-01-02T03:04:05Z","flag":true,"whole":-7,"anyway":{"x":[1,"y"]}}`,
-		`{"main":null,"parts":null,"flag":null}`, // null decodes into anything
-		`{"parts":[{"note":"\ud835\udd38"}]}`,    // a surrogate pair as escapes
+		`{"main":null,"parts":null,"flag":null}`,              // null decodes into anything
+		`{"parts":[{"note":"\ud835\udd38"}]}`,                 // a surrogate pair as escapes
+		`{"main":{"size":0.` + strings.Repeat("1", 62) + `}}`, // 64 characters, as a form takes
+		`{"main":{"size":-0.0e-999}}`,                         // 0, written so: no underflow
 	} {
 		if err := ScanJSON([]byte(doc), scanLayout); err != nil {
 			t.Errorf("%s: %v", doc, err)
@@ -74,8 +76,10 @@ func TestScanJSONRefuses(t *testing.T) {
 		{`{"flag":"yes"}`, "flag", "type"},
 		{`[]`, "doc", "type"},
 		{`{"main":{"size":1e400}}`, "main.size", elicit.RuleFinite},
-		{`{"main":{"size":1e-400}}`, "main.size", RuleUnderflow}, // read as 0 by strconv, without an error
-		{`{"parts":[{"size":-0.` + strings.Repeat("0", 400) + `1}]}`, "parts[0].size", RuleUnderflow},
+		{`{"main":{"size":1e-400}}`, "main.size", RuleUnderflow},                                     // read as 0 by strconv, without an error
+		{`{"main":{"size":0.01` + strings.Repeat("0", 100000) + `}}`, "main.size", RuleNumberSyntax}, // a form takes 64 characters
+		{`{"parts":[{"size":1` + strings.Repeat("0", 64) + `}]}`, "parts[0].size", RuleNumberSyntax},
+		{`{"parts":[{"size":-2e-324}]}`, "parts[0].size", RuleUnderflow},
 		{`{"parts":[{"note":"a\u0000b"}]}`, "parts[0].note", RuleTextValid},
 		{"{\"parts\":[{\"note\":\"a\xffb\"}]}", "parts[0].note", RuleTextValid},
 		{`{"parts":[{"note":"a\udc00b"}]}`, "parts[0].note", RuleTextValid},
