@@ -399,7 +399,7 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 // Q3) or by id:N.
 func findQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
 	id, byID := sheetID(s)
-	pos, err := strconv.Atoi(strings.TrimPrefix(strings.ToUpper(s), "Q"))
+	pos, err := input.Whole("question", strings.TrimPrefix(strings.ToUpper(strings.TrimSpace(s)), "Q"), 1, input.MaxID)
 	for _, q := range questions {
 		if q.Retired {
 			continue
@@ -411,14 +411,15 @@ func findQuestion(s string, questions []workshop.Question) (workshop.Question, b
 	return workshop.Question{}, false
 }
 
-// sheetID reads "id:N".
+// sheetID reads "id:N", N by the rule of every id Parley reads: digits
+// only, 1 to input.MaxID (strconv.ParseInt took "id:+3").
 func sheetID(s string) (int64, bool) {
 	rest, ok := strings.CutPrefix(strings.ToLower(strings.TrimSpace(s)), "id:")
 	if !ok {
 		return 0, false
 	}
-	id, err := strconv.ParseInt(strings.TrimSpace(rest), 10, 64)
-	return id, err == nil && id > 0
+	id, err := input.Whole("id", rest, 1, input.MaxID)
+	return int64(id), err == nil
 }
 
 // RuleSheetRound is the rule that a sheet is saved into an open round.

@@ -222,6 +222,13 @@ func TestAnswerSheetRefusals(t *testing.T) {
 	}{
 		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", ruleSheetExpert},
 		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
+		// Ids and numbers by the rule of every id Parley reads, digits
+		// only (parley import-answers --workshop +1 is refused):
+		// strconv took a sign.
+		{"an expert's id with a sign", head + good + "id:+2,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", ruleSheetExpert},
+		{"a question's number with a sign", head + good + "Bruno Ferrante,+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
+		{"a question's id with a sign", head + good + "Bruno Ferrante,id:+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
+		{"Q and a sign", head + good + "Bruno Ferrante,Q+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
 		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", ruleSheetColumn},
 		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", ruleSheetMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
