@@ -80,18 +80,31 @@ func checkValues(field string, xs []float64, lower, upper float64, offset int) e
 		if i > 0 && !(x > xs[i-1]) {
 			return inputErr(f, RuleValueIncreasing, "%v after %v", x, xs[i-1])
 		}
-		if (x-lower)/w < MinBoundGap || (upper-x)/w < MinBoundGap {
+		if shortOf(x-lower, MinBoundGap*w, x, lower) || shortOf(upper-x, MinBoundGap*w, x, upper) {
 			return inputErr(f, RuleValueNearBound, "%v on (%v, %v)", x, lower, upper)
 		}
 		if i > 0 {
 			prev := xs[i-1]
 			near := math.Min(math.Min(prev-lower, upper-prev), math.Min(x-lower, upper-x))
-			if x-prev < MinValueGap*near {
+			if shortOf(x-prev, MinValueGap*near, x, prev) {
 				return inputErr(f, RuleValuesTooClose, "%v after %v", x, prev)
 			}
 		}
 	}
 	return nil
+}
+
+// shortOf reports whether gap, the float64 difference of a and b, falls
+// short of limit by more than the rounding of a and b themselves (half a
+// unit in the last place each, so two machine epsilons of the larger;
+// at most half the limit). A value
+// typed exactly at a stated limit (0.1000001 after 0.1, a millionth of
+// 0.1 apart; 1.00000001 on [1, 101], 1e-10 of the range from 1) is a
+// float64 a unit or so either side of it, and was refused about half the
+// time by the bare comparison.
+func shortOf(gap, limit, a, b float64) bool {
+	slack := math.Min(2*floatEps*math.Max(math.Abs(a), math.Abs(b)), limit/2)
+	return gap < limit-slack
 }
 
 // CheckProbs checks a list of probabilities: each finite, strictly inside
