@@ -26,7 +26,10 @@ import (
 //	expert     the expert's name as on the panel, or id:N
 //	question   the question's number as on the overview (3 or Q3), or id:N
 //	qNN ...    for a quantile question, one column per probability it asks,
-//	           named as `parley calibrate` names them: q05, q50, q95
+//	           named as `parley calibrate` reads them: q05, q50, q95; a
+//	           probability without a short decimal form takes two digits
+//	           (q33 for 1/3), where the calibration page's CSV
+//	           (record.WriteCalibrationCSV) writes every digit
 //	lowest, highest, best, confidence   for a four-value question; the
 //	           confidence in percent, as on the expert's form (80 for 80%)
 //	bin1 ...   for a chips question, the chips in each bin, in order
