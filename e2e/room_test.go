@@ -54,10 +54,21 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	if got := eval[string](fac, "Priya's cell before", cell); got != "no answer yet" {
 		t.Fatalf("Priya's question-1 cell reads %q before her save", got)
 	}
+	// Question 1's panel, open in a second tab, lists the reasons the
+	// facilitator may withhold before round 2 shows them.
+	panel := fac.tab("question 1's panel")
+	panel.viewport(1366, 900, false)
+	panel.open(wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10))
+	panel.waitFor("the panel's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	const priyasReason = "Supplier audits found two line faults (invented)."
+	withholdable := `Array.from(document.querySelectorAll("#reasons li")).some(li => li.innerText.includes(` + strconv.Quote(priyasReason) + `) && li.querySelector("form button"))`
+	if eval[bool](panel, "Priya's reason before her save", withholdable) {
+		t.Fatalf("the panel lists Priya's reason before she gave it")
+	}
 	priya := br.person("Priya Raman")
 	openQuestion(t, priya, site.URL+linkOf(t, links, "Priya Raman"), 1)
 	typeValues(priya, "0.02", "0.05", "0.12")
-	priya.fill(`form.answer-form`, "reason", "Supplier audits found two line faults (invented).")
+	priya.fill(`form.answer-form`, "reason", priyasReason)
 	saveAnswer(t, priya)
 	saved := time.Now()
 	if err := fac.poll(liveWithin, cell+` === "answered (1 save)"`); err != nil {
@@ -65,6 +76,12 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	}
 	t.Logf("the overview showed the save %v after it", time.Since(saved).Round(time.Millisecond))
 	shots.take(fac, "room-01-live-overview-1366")
+	// The reason arrives on the panel, with its Withhold button, without
+	// a reload: the facilitator can keep it from the feedback at once.
+	if err := panel.poll(liveWithin, withholdable); err != nil {
+		t.Errorf("question 1's panel did not list Priya's new reason to withhold within %v: %v", liveWithin, err)
+	}
+	shots.take(panel, "room-01b-live-panel-reasons-1366")
 
 	// A typo in question 1's wording is corrected along the way: its
 	// answers keep their meaning, so only the text may change, and the
