@@ -319,7 +319,9 @@ func (w eventWriter) weights(d eventDetail) string {
 	}
 	parts := make([]string, len(ids))
 	for i, id := range ids {
-		parts[i] = w.expert(id) + " " + strconv.FormatFloat(shares[i], 'f', 2, 64)
+		// As the panel's "Weight in pool" column writes them: two
+		// decimals said 0.00 of a share the panel gives as 0.332%.
+		parts[i] = w.expert(id) + " " + pct(shares[i])
 	}
 	scheme := "Weights set by the facilitator"
 	if d.Scheme == workshop.WeightsPerformance {

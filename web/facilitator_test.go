@@ -524,7 +524,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 	beta := "Beta(" + fv(ps[1].Dist.Alpha) + ", " + fv(ps[1].Dist.Beta.Beta) + "): the single Beta representing the linear pool."
 	want := []string{
 		"Ines Varga joined the panel", "Ole Brandt joined the panel",
-		"Ines Varga 0.50, Tomas Lindqvist 0.25, Priya Raman 0.25, Ole Brandt 0.00",
+		"Ines Varga 50%, Tomas Lindqvist 25%, Priya Raman 25%, Ole Brandt 0%",
 		beta,
 		"Round 1 closed", "Round 2 opened",
 		"True value 0.0413 shown to the experts.", "True value changed to 0.0415",

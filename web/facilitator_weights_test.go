@@ -67,7 +67,7 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 		if i > 0 {
 			want += ", "
 		}
-		want += htmlEscape(e.Name) + " 0.25"
+		want += htmlEscape(e.Name) + " 25%"
 	}
 	if !strings.Contains(log, want) {
 		t.Errorf("the decision log lacks %q", want)
@@ -90,6 +90,64 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 				t.Errorf("export: expert %d has weight %v, want 0.25", w.ExpertID, w.Weight)
 			}
 		}
+	}
+}
+
+// TestLogWritesSharesAsThePanel: the decision log writes each expert's
+// share of the pool as the panel's "Weight in pool" column does. Custom
+// weights 1, 1, 1 and 0.01 are shares 1/3.01 = 33.2% and 0.01/3.01 =
+// 0.332% (by hand); the log wrote them 0.33 and 0.00, telling the
+// reader the fourth expert did not count at all.
+func TestLogWritesSharesAsThePanel(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	if len(es) != 4 {
+		t.Fatalf("the demo has %d experts, want 4", len(es))
+	}
+	// A question every demo expert answered, so the panel's shares are
+	// the weight set's.
+	revs, err := h.db.Revisions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var q workshop.Question
+	for _, cand := range qs {
+		who := map[int64]bool{}
+		for _, rv := range revs {
+			if rv.QuestionID == cand.ID {
+				who[rv.ExpertID] = true
+			}
+		}
+		if len(who) == 4 {
+			q = cand
+			break
+		}
+	}
+	if q.ID == 0 {
+		t.Fatal("no demo question has answers from all four experts")
+	}
+	qp := questionPath(ws.ID, q.ID)
+	form := url.Values{"scheme": {"custom"}, "reason": {"One expert nearly left out (invented)"}}
+	for i, e := range es {
+		w := "1"
+		if i == 3 {
+			w = "0.01"
+		}
+		form.Set(weightField(e.ID), w)
+	}
+	if res, body := h.post(qp+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	_, panel := h.get(qp)
+	for _, share := range []string{"33.2%", "0.332%"} {
+		if !strings.Contains(panel, `<td class="num">`+share+`</td>`) {
+			t.Errorf("the panel does not show the share %s", share)
+		}
+	}
+	_, log := h.get(workshopPath(ws.ID) + "/log")
+	want := "as shares of the pool: " + htmlEscape(es[0].Name) + " 33.2%, " + htmlEscape(es[1].Name) + " 33.2%, " +
+		htmlEscape(es[2].Name) + " 33.2%, " + htmlEscape(es[3].Name) + " 0.332%."
+	if !strings.Contains(log, want) {
+		t.Errorf("the decision log lacks %q", want)
 	}
 }
 
