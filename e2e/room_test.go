@@ -138,8 +138,19 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 		t.Errorf("the medians strip's letters have no halo: %q", halo)
 	}
 	fitsScreen(t, room, 1920, 1080)
+	notesReadable(t, room, "1920×1080", 17)
 	shots.take(room, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
+	// An older projector: 1366×768. The picture's notes (the axis zoomed
+	// in, a density cut at the top) were its 12-unit small print, under
+	// 10 px here.
+	room.viewport(1366, 768, false)
+	room.open(roomURL(q1))
+	fitsScreen(t, room, 1366, 768)
+	notesReadable(t, room, "1366×768", 16)
+	shots.take(room, "room-02b-question-1-1366x768")
+	room.viewport(1920, 1080, false)
+	room.open(roomURL(q1))
 
 	// Keys move between the questions' room views.
 	room.do("press the right arrow", chromedp.KeyEvent(kb.ArrowRight))
@@ -269,4 +280,33 @@ func keys(m map[string]string) []string {
 	}
 	sort.Strings(out)
 	return out
+}
+
+// notesReadable fails unless the room's picture says what its axes leave
+// out (the demo's question 1 is zoomed in and has a spike cut at the
+// top) in text of at least px pixels, and none of it in the picture's
+// small print.
+func notesReadable(t *testing.T, p *person, screen string, px float64) {
+	t.Helper()
+	type note struct {
+		Text string  `json:"text"`
+		Size float64 `json:"size"`
+	}
+	notes := eval[[]note](p, "the picture's notes", `Array.from(document.querySelectorAll(".room-chart-notes li")).map(li => ({text: li.innerText, size: parseFloat(getComputedStyle(li).fontSize)}))`)
+	var all []string
+	for _, n := range notes {
+		all = append(all, n.Text)
+		if n.Size < px {
+			t.Errorf("on a %s screen the room's note %q is %.1f px, want at least %.0f", screen, n.Text, n.Size, px)
+		}
+	}
+	joined := strings.Join(all, " ")
+	for _, want := range []string{"Zoomed in: the axis stops at", "The density rises above the top of the chart"} {
+		if !strings.Contains(joined, want) {
+			t.Errorf("on a %s screen the room view does not say %q under its picture; its notes: %q", screen, want, all)
+		}
+	}
+	if small := eval[int](p, "notes in the picture", `Array.from(document.querySelectorAll(".room-chart svg text.chart-note")).filter(e => e.getClientRects().length > 0 && getComputedStyle(e).display !== "none").length`); small != 0 {
+		t.Errorf("on a %s screen the room's picture still draws %d notes in its small print", screen, small)
+	}
 }

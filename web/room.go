@@ -35,8 +35,11 @@ type roomView struct {
 	Spread   *chart.SpreadView
 	Medians  *chart.MedianStripView
 	Reasons  []feedbackReason
-	Truth    string // the revealed true value, "" before the reveal
-	Note     string // why there is no panel, when there is none
+	// ChartNotes are the picture's notes, shown under it in the room's
+	// own type instead of the picture's small print.
+	ChartNotes []string
+	Truth      string // the revealed true value, "" before the reveal
+	Note       string // why there is no panel, when there is none
 	// Held is set for a calibration question whose true value is not yet
 	// revealed: the room shows none of its answers, as the experts' pages
 	// do not (workshop.Question.PanelHeld).
@@ -186,6 +189,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 			curves = append(curves, poolCurve(fb.pool))
 		}
 		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
+		v.ChartNotes = chart.PanelNotes(*v.Panel)
 	}
 	v.Reasons = fb.reasons(0)
 	return nil

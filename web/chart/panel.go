@@ -71,6 +71,23 @@ func Panel(v PanelView) templ.Component {
 	return panelFigure(newPanelModel(v))
 }
 
+// PanelNotes are the notes Panel writes under its wide picture (the
+// axis zoomed in, a density cut at the top), for a page that shows them
+// in its own larger type: the projector's room view, where the picture's
+// 12-unit notes read at under 10 px on a 1366×768 screen.
+func PanelNotes(v PanelView) []string {
+	var curves []Curve
+	for _, c := range v.Curves {
+		if c.valid() {
+			curves = append(curves, c)
+		}
+	}
+	if len(curves) == 0 {
+		return nil
+	}
+	return newTwinIn(wideLayout, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false, v.Percent).Notes
+}
+
 func newPanelModel(v PanelView) panelModel {
 	m := panelModel{ID: v.ID, Units: v.Units}
 	if m.ID == "" {
