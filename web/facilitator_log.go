@@ -49,17 +49,25 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	revs, err := s.store.Revisions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	m := facilitatorMeta(ws, "Decision log", "log")
 	// An agreement's entry writes the agreed Beta: the caution goes with it.
 	m.Caution = len(ps) > 0
-	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, evs, qs, es, ps)))
+	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, evs, qs, es, ps, revs)))
 }
 
 // newLogView writes each event as a row of the log, naming experts and
 // questions instead of their ids; ps are the workshop's agreed priors,
 // for what an agreement's event does not carry (a consensus judgement).
-func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior) logView {
-	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps}
+func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision) logView {
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}}
+	for _, rv := range revs {
+		w.revisions[rv.ID] = rv
+	}
 	for _, q := range qs {
 		w.questions[q.ID] = q
 	}
@@ -147,6 +155,9 @@ type eventWriter struct {
 	experts   []workshop.Expert
 	revealed  map[int64]bool
 	priors    []workshop.AgreedPrior
+	// revisions name the expert and round of a withheld reason, as the
+	// panel's list does where it was withheld.
+	revisions map[int64]workshop.Revision
 }
 
 // prior is the agreed prior that event e recorded: the store writes the
@@ -268,8 +279,14 @@ func (w eventWriter) sentence(e workshop.Event) string {
 	case workshop.EventWorkshopRestored:
 		return "Can be changed again; the round stays closed until the next opens."
 	case workshop.EventReasonWithheld:
+		if rv, ok := w.revisions[d.RevisionID]; ok {
+			return w.expert(rv.ExpertID) + "'s reason from round " + strconv.Itoa(rv.Round) + " is kept from the other experts' feedback and the room view; it stays in the record."
+		}
 		return "One expert's reason on this question is kept from the other experts' feedback and the room view; it stays in the record."
 	case workshop.EventReasonReleased:
+		if rv, ok := w.revisions[d.RevisionID]; ok {
+			return w.expert(rv.ExpertID) + "'s reason from round " + strconv.Itoa(rv.Round) + " is shown in the feedback again."
+		}
 		return "A withheld reason is shown in the feedback again."
 	case workshop.EventTruthRevealed:
 		if d.TrueValue != nil {

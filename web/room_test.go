@@ -178,6 +178,14 @@ func TestReasonsInFeedbackAndWithheld(t *testing.T) {
 	if _, body := h.get(questionPath(ws.ID, q.ID)); !strings.Contains(body, "withheld from the feedback") {
 		t.Error("the panel does not show the reason as withheld")
 	}
+	// The decision log and the report say whose reason it was, as the
+	// panel's list did where it was withheld ("Ines Varga, round 1: …").
+	withheldLine := htmlEscape(es[0].Name + "'s reason from round 1 is kept from the other experts' feedback")
+	for _, page := range []string{wp + "/log", wp + "/report"} {
+		if _, body := h.get(page); !strings.Contains(body, withheldLine) {
+			t.Errorf("%s does not say whose reason was withheld (want %q)", page, withheldLine)
+		}
+	}
 	for _, step := range []url.Values{{"action": {"close"}}, {"action": {"open"}, "reason": {"Round 2 (invented)."}}} {
 		if r, _ := h.post(wp+"/round", step); r.StatusCode != http.StatusSeeOther {
 			t.Fatal("rounds")
@@ -222,5 +230,8 @@ func TestReasonsInFeedbackAndWithheld(t *testing.T) {
 	}
 	if _, body := h.get(qpath(1)); !strings.Contains(body, "Dr Example") {
 		t.Error("a released reason does not reach the other experts")
+	}
+	if _, body := h.get(wp + "/log"); !strings.Contains(body, htmlEscape(es[0].Name+"'s reason from round 1 is shown in the feedback again.")) {
+		t.Error("the decision log does not say whose reason was shown again")
 	}
 }
