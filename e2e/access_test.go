@@ -2,6 +2,7 @@ package e2e
 
 import (
 	"net/http"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -14,6 +15,7 @@ import (
 func TestAccessInBrowser(t *testing.T) {
 	site := startSite(t)
 	b := startBrowser(t)
+	shots := newScreenshots(t)
 
 	// A stranger with a made-up secret of the right shape.
 	stranger := b.person("stranger")
@@ -63,6 +65,14 @@ func TestAccessInBrowser(t *testing.T) {
 	// Re-issued: a new link works, the old one still does not.
 	fac.open(wsURL)
 	fac.load("re-issue the link", chromedp.Click(chromedp.CSS(row+` form[action$="/reissue"] button`)))
+	// A new link is confirmed first, as revoking is.
+	fac.sees("the new link's confirmation", "a new link and their access back?", "Issue the new link", "Leave their access revoked")
+	for _, width := range []int64{390, 1366} {
+		fac.viewport(width, 844, width < 1000)
+		fits(t, fac, "the new link's confirmation", width)
+		shots.take(fac, "access-reissue-confirm-"+strconv.FormatInt(width, 10))
+	}
+	fac.load("confirm the new link", chromedp.Click(chromedp.CSS(`form[action$="/reissue"] button[type=submit]`)))
 	fresh := expertLink.FindString(fac.text())
 	if fresh == "" || fresh == link {
 		t.Fatalf("re-issuing showed no new link (got %q, old %q)", fresh, link)

@@ -182,8 +182,9 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, workshopPath(ws.ID)+"#roster", http.StatusSeeOther)
 }
 
-// reissueLink replaces an expert's token; the old link stops working at
-// once and the new one is shown on the page the facilitator is sent to.
+// reissueLink replaces an expert's token, after a confirmation page
+// (confirm=yes); the old link stops working at once and the new one is
+// shown on the page the facilitator is sent to.
 func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -195,8 +196,21 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", input.MaxLongText, false)
-	if !f.OK() {
-		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RosterForm: f})
+	// As for revoking, a new link is confirmed first: "New link" stands
+	// beside "Revoke…" on the overview, and a click by mistake would end
+	// an expert's working link in the middle of a round.
+	if !f.OK() || f.Value("confirm") != "yes" {
+		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		status := http.StatusOK
+		if !f.OK() {
+			status = http.StatusUnprocessableEntity
+		}
+		s.renderPage(w, r, status, facilitatorMeta(ws, "New link for "+e.Name, "overview"),
+			reissuePage(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
 		return
 	}
 	token, hash, err := newToken()

@@ -391,7 +391,18 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	if r := rosterRow(body); strings.Count(r, `name="reason"`) != 1 || !strings.Contains(r, `action="`+reissue+`"`) || strings.Contains(r, revoke) {
 		t.Errorf("revoked expert's row: want one reason box and a new link only:\n%s", r)
 	}
-	res, _ := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}})
+	// A new link, too, asks for confirmation first and changes nothing
+	// until then (a click by mistake beside "Revoke…" would end a
+	// working link).
+	if res, body := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}}); res.StatusCode != http.StatusOK ||
+		!strings.Contains(body, "Give Expert One a new link and their access back?") || !strings.Contains(body, `name="confirm" value="yes"`) ||
+		!strings.Contains(body, "back again") {
+		t.Fatalf("reissue without confirming: %d, want the confirmation page keeping the reason", res.StatusCode)
+	}
+	if evs, _ := h.db.Events(context.Background(), ws.ID); evs[len(evs)-1].Kind == workshop.EventTokenReissued {
+		t.Fatal("an unconfirmed reissue was recorded")
+	}
+	res, _ := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{"reason": {"back again"}, "confirm": {"yes"}})
 	if res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("reissue: %d", res.StatusCode)
 	}
@@ -405,6 +416,14 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	}
 	if res, _ := h.get(expertPath(m[1])); res.StatusCode != http.StatusOK {
 		t.Fatalf("new link: %d", res.StatusCode)
+	}
+	// For an expert with a working link, the confirmation says it ends.
+	if res, body := h.post(expertActionPath(ws.ID, e.ID, "reissue"), url.Values{}); res.StatusCode != http.StatusOK ||
+		!strings.Contains(body, "Give Expert One a new private link?") || !strings.Contains(body, "Their current link stops working at once") {
+		t.Fatalf("reissue of a working link without confirming: %d", res.StatusCode)
+	}
+	if res, _ := h.get(expertPath(m[1])); res.StatusCode != http.StatusOK {
+		t.Fatalf("an unconfirmed reissue ended the link: %d", res.StatusCode)
 	}
 	// An expert of another workshop cannot be revoked through this one.
 	other := h.newWorkshop("Other (invented)")

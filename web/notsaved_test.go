@@ -159,7 +159,7 @@ func TestSaveOnAFullDisk(t *testing.T) {
 			"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}, "Typed wording (invented)?"},
 		{"add expert", wp + "/experts", url.Values{"name": {"Typed Name (invented)"}}, `value="Typed Name (invented)"`},
 		{"revoke", expertActionPath(ws.ID, es[1].ID, "revoke"), url.Values{"reason": {"Typed revoke reason (invented)"}, "confirm": {"yes"}}, ""},
-		{"re-issue", expertActionPath(ws.ID, es[1].ID, "reissue"), url.Values{"reason": {"Typed reissue reason (invented)"}}, ""},
+		{"re-issue", expertActionPath(ws.ID, es[1].ID, "reissue"), url.Values{"reason": {"Typed reissue reason (invented)"}, "confirm": {"yes"}}, ""},
 		{"close round", wp + "/round", url.Values{"action": {"close"}, "reason": {"Typed close reason (invented)"}}, "Typed close reason (invented)"},
 		{"weights", qp + "/weights", weights, "Typed reason W (invented)"},
 		{"agree", qp + "/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Typed rationale (invented)"}}, "Typed rationale (invented)"},

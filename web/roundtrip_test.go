@@ -148,7 +148,7 @@ func TestEveryTextFieldRoundTripsAtItsLimit(t *testing.T) {
 	}, ok)
 	fac.mustPost("revoke", wp+"/experts/"+eid(2)+"/revoke", url.Values{"reason": {long(52)}, "confirm": {"yes"}}, ok)
 	fac.mustPost("revoke again", wp+"/experts/"+eid(1)+"/revoke", url.Values{"reason": {long(53)}, "confirm": {"yes"}}, ok)
-	fac.mustPost("new link", wp+"/experts/"+eid(1)+"/reissue", url.Values{"reason": {long(54)}}, ok)
+	fac.mustPost("new link", wp+"/experts/"+eid(1)+"/reissue", url.Values{"reason": {long(54)}, "confirm": {"yes"}}, ok)
 	fac.mustPost("weights", qp+"/weights", url.Values{
 		"scheme": {"custom"}, "reason": {long(55)},
 		"weights[" + eid(0) + "]": {"2"}, "weights[" + eid(1) + "]": {"1"}, "weights[" + eid(2) + "]": {"1"},
