@@ -229,7 +229,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 		t.Fatalf("record the agreed prior: status %d\n%s", st, clip(fac.text(), 2000))
 	}
 	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2",
-		"agreed while round 2 was still open")
+		"Agreed while round 2 was still open")
 	if ps := agreedPriors(t, site); len(ps) != 1 || !ps[0].RoundOpen {
 		t.Fatalf("the prior agreed while the round was open is not marked so: %+v", ps)
 	}

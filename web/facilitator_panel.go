@@ -64,6 +64,25 @@ func (st questionState) poolSeen() string {
 	return b.String()
 }
 
+// singleBetaGap says how far the pool's single Beta is from the pool: a
+// pool whose experts all have one Beta (a panel of one, say) is that Beta
+// exactly (elicit.Pool.BestBeta), and "at most 0 away" read as a rounding.
+func singleBetaGap(gap float64) string {
+	if gap == 0 {
+		return "The single Beta is the pool itself: every pooled expert's fit is this one Beta."
+	}
+	return "The single Beta's CDF is at most " + fv(gap) + " (in probability) away from the pool's. " +
+		"A mixture of very different experts can be far from any one Beta: look at the picture before agreeing it."
+}
+
+// singleBetaReportGap is singleBetaGap for the report's line on the pool.
+func singleBetaReportGap(gap float64) string {
+	if gap == 0 {
+		return "the pool itself (every pooled expert's fit is this one Beta)"
+	}
+	return "at most " + fv(gap) + " from the pool's CDF"
+}
+
 // fieldPoolSeen is the agree form's record of the pool the page showed
 // (questionState.poolSeen). It stands in the live part of the panel,
 // tied to the form by its form attribute, so that a live update of the
