@@ -309,13 +309,16 @@ func previousLabel(q workshop.Question, field string) string {
 // exponent.
 func formNumber(v float64, percent bool) string { return input.Typed(v, percent) }
 
-// shownValue writes a stored value for the expert, as they typed it.
-func typedBack(v float64, percent bool) string {
-	if percent {
-		return chart.FormatPercent(v)
-	}
-	return chart.FormatValue(v)
+// typedBack writes a stored value of q for the expert, as they typed it:
+// as a percentage when they typed percentages, with the same figures
+// either way and never rounded onto a bound (chart.FormatWithin).
+func typedBack(q workshop.Question, v float64, percent bool) string {
+	return chart.FormatWithin(v, q.Lower, q.Upper, percent)
 }
+
+// confidenceBack writes a four-value confidence as typed, a percentage
+// short of 100% however close to it.
+func confidenceBack(c float64) string { return chart.FormatWithin(c, 0, 1, true) }
 
 // readAsLine says how a proportion question's values were read: "Read as
 // 0.02 (2%), 0.05 (5%) and 0.12 (12%)."
@@ -325,7 +328,7 @@ func readAsLine(q workshop.Question, values []float64) string {
 	}
 	parts := make([]string, len(values))
 	for i, v := range values {
-		parts[i] = chart.FormatValue(v) + " (" + chart.FormatPercent(v) + ")"
+		parts[i] = typedBack(q, v, false) + " (" + typedBack(q, v, true) + ")"
 	}
 	last := len(parts) - 1
 	if last == 0 {

@@ -230,9 +230,9 @@ func upperFirst(s string) string {
 
 // readBack turns one stated pair P(X ≤ x) = p into a sentence, speaking of
 // the smaller tail so that 95% reads "1 in 20 ... above".
-func readBack(p, x float64, units string, percent bool, sp speaker) string {
-	v := chart.FormatValue(x)
-	if u := strings.TrimSpace(units); u != "" {
+func readBack(p, x float64, q workshop.Question, percent bool, sp speaker) string {
+	v := typedBack(q, x, false)
+	if u := strings.TrimSpace(q.Units); u != "" {
 		// In brackets, as the form's labels and the picture's axis write
 		// them: units that name the quantity ("proportion of mains") do
 		// not read as a number's suffix.
@@ -240,7 +240,7 @@ func readBack(p, x float64, units string, percent bool, sp speaker) string {
 	}
 	if percent {
 		// The expert typed percentages: speak in them.
-		v = chart.FormatPercent(x)
+		v = typedBack(q, x, true)
 	}
 	says := sp.pick("You are saying", "%s is saying")
 	switch {
@@ -727,8 +727,8 @@ func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) histor
 func answerInWords(q workshop.Question, a workshop.Answer) string {
 	switch q.Format {
 	case workshop.FormatInterval:
-		return "between " + typedBack(a.Lowest, a.Percent) + " and " + typedBack(a.Highest, a.Percent) + ", " +
-			chart.FormatPercent(a.Confidence) + " sure; best estimate " + typedBack(a.Best, a.Percent)
+		return "between " + typedBack(q, a.Lowest, a.Percent) + " and " + typedBack(q, a.Highest, a.Percent) + ", " +
+			confidenceBack(a.Confidence) + " sure; best estimate " + typedBack(q, a.Best, a.Percent)
 	case workshop.FormatChips:
 		var parts []string
 		for _, c := range a.Counts {
@@ -745,7 +745,7 @@ func answerInWords(q workshop.Question, a workshop.Answer) string {
 		if i == 0 {
 			p += " chance"
 		}
-		parts = append(parts, p+" below "+typedBack(x, a.Percent))
+		parts = append(parts, p+" below "+typedBack(q, x, a.Percent))
 	}
 	return strings.Join(parts, "; ")
 }
@@ -755,8 +755,8 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 	var parts []string
 	switch q.Format {
 	case workshop.FormatInterval:
-		parts = append(parts, "lowest "+typedBack(a.Lowest, a.Percent), "highest "+typedBack(a.Highest, a.Percent),
-			"best "+typedBack(a.Best, a.Percent), "sure "+chart.FormatPercent(a.Confidence))
+		parts = append(parts, "lowest "+typedBack(q, a.Lowest, a.Percent), "highest "+typedBack(q, a.Highest, a.Percent),
+			"best "+typedBack(q, a.Best, a.Percent), "sure "+confidenceBack(a.Confidence))
 	case workshop.FormatChips:
 		for _, c := range a.Counts {
 			parts = append(parts, strconv.Itoa(c))
@@ -768,7 +768,7 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 			if i < len(q.Probs) {
 				p = chart.FormatPercent(q.Probs[i])
 			}
-			parts = append(parts, p+": "+typedBack(x, a.Percent))
+			parts = append(parts, p+": "+typedBack(q, x, a.Percent))
 		}
 	}
 	return strings.Join(parts, "; ")
@@ -805,7 +805,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 			p.Fit.Fitted = append(p.Fit.Fitted, fit.Fitted[i])
 			p.Fit.FittedProbs = append(p.Fit.FittedProbs, pr+fit.ProbErrors[i])
 		}
-		line := readBack(pr, x, q.Units, percent && q.Format != workshop.FormatChips, sp)
+		line := readBack(pr, x, q, percent && q.Format != workshop.FormatChips, sp)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
 		}
@@ -815,7 +815,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 	// statistician; the picture's table and the history use them bare.
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted curve puts the middle 90%% of the chance between %s and %s, with median %s. "+
 		"It is %s, a Beta distribution: α and β are the two numbers that set its shape.",
-		typedBack(fit.Percentiles[0], percent), typedBack(fit.Percentiles[2], percent), typedBack(fit.Percentiles[1], percent), p.Params))
+		typedBack(q, fit.Percentiles[0], percent), typedBack(q, fit.Percentiles[2], percent), typedBack(q, fit.Percentiles[1], percent), p.Params))
 	p.Warnings = expertWarnings(q, fit, sp)
 	return p
 }

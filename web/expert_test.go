@@ -625,7 +625,7 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		// A four-value interval held 99.95% sure leaves 1 in 4000 in each tail.
 		{0.00025, 0.01, "You are saying there is less than a 1 in 1000 chance the value is below 0.01 (per demand)."},
 	} {
-		if got := readBack(c.p, c.x, "per demand", false, speaker{}); got != c.want {
+		if got := readBack(c.p, c.x, workshop.Question{Units: "per demand", Lower: 0, Upper: 1}, false, speaker{}); got != c.want {
 			t.Errorf("readBack(%v, %v) = %q, want %q", c.p, c.x, got, c.want)
 		}
 	}
@@ -641,7 +641,7 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		t.Errorf("a fitted chance of 1 above: %q, want %q", got, want)
 	}
 	// For an expert who typed percentages, the read-back speaks in them.
-	if got, want := readBack(0.05, 0.03, "proportion of mains", true, speaker{}), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
+	if got, want := readBack(0.05, 0.03, workshop.Question{Units: "proportion of mains", Lower: 0, Upper: 1}, true, speaker{}), "You are saying there is a 1 in 20 chance the value is below 3%."; got != want {
 		t.Errorf("in percentages: %q, want %q", got, want)
 	}
 }

@@ -332,3 +332,49 @@ func TestTheLargestConfidenceIsTaken(t *testing.T) {
 		t.Errorf("sheet, confidence %s: %v", over, err)
 	}
 }
+
+// A value is read back as the expert typed it: a percentage with the
+// figures of the same value typed as a proportion (12.35%, not 12.3%),
+// a value just short of a bound short of it (0.99996, not 1, which the
+// question does not allow), and a rare event's value without an exponent.
+func TestValuesReadBackAsTyped(t *testing.T) {
+	g := newExpertRig(t)
+	if r, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("11.5%", "12.35%", "14.25%")); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save in percentages: %d", r.StatusCode)
+	}
+	_, page := g.get(g.qpath(0, g.q))
+	for _, want := range []string{
+		"Read as 0.115 (11.5%), 0.1235 (12.35%) and 0.1425 (14.25%).",
+		"as likely to be below 12.35% as above it",
+		"1 in 20 chance the value is above 14.25%.",
+		"<td>12.35%</td>", // the fit's table, "you said"
+		"5% chance below 11.5%; 50% below 12.35%; 95% below 14.25%", // the history
+	} {
+		if !strings.Contains(page, want) {
+			t.Errorf("typed 12.35%% and 14.25%%: the page lacks %q", want)
+		}
+	}
+	f := url.Values{"lowest": {"0.1"}, "highest": {"0.4"}, "best": {"0.2"}, "confidence": {"85.55"}}
+	if r, _ := g.post(g.qpath(0, g.qi)+"/save", f); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save a confidence of 85.55: %d", r.StatusCode)
+	}
+	if _, page := g.get(g.qpath(0, g.qi)); !strings.Contains(page, "85.55% sure") {
+		t.Error("a confidence typed 85.55 is not shown as 85.55%")
+	}
+	_, body := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.999", "0.9999", "0.99996"))
+	for _, want := range []string{"and 0.99996 (99.996%).", "the value is above 0.99996 (proportion)."} {
+		if !strings.Contains(body, want) {
+			t.Errorf("0.99996 is not read back short of the bound 1: lacks %q\n%s", want, body)
+		}
+	}
+	if strings.Contains(body, " 1 (") || strings.Contains(body, "above 1 ") {
+		t.Errorf("a value short of 1 is read back as 1:\n%s", body)
+	}
+	_, body = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.00001", "0.00002", "0.00005"))
+	if !strings.Contains(body, "Read as 0.00001 (0.001%), 0.00002 (0.002%) and 0.00005 (0.005%).") {
+		t.Errorf("a rare event's values are not read back as typed:\n%s", body)
+	}
+	if m := regexp.MustCompile(`\de-\d`).FindString(regexp.MustCompile(`<[^>]*>`).ReplaceAllString(body, " ")); m != "" {
+		t.Errorf("the preview of a rare event shows an exponent (%s)", m)
+	}
+}

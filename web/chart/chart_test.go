@@ -482,7 +482,7 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 	}
 	v.Percent = true
 	pct := render(v)
-	for _, want := range []string{"<td>6%</td>", "<td>36%</td>", "median " + formatSig(100*d.Quantile(0.5), 3) + "%<", ">" + FormatPercent(d.Quantile(0.95)) + "</td>", "5% chance below 6%"} {
+	for _, want := range []string{"<td>6%</td>", "<td>36%</td>", "median " + formatSig(100*d.Quantile(0.5), 3) + "%<", ">" + FormatWithin(d.Quantile(0.95), 0, 1, true) + "</td>", "5% chance below 6%"} {
 		if !strings.Contains(pct, want) {
 			t.Errorf("percent: lacks %q", want)
 		}

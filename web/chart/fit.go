@@ -41,10 +41,7 @@ type FitView struct {
 
 // value writes a value of the quantity as the expert typed it.
 func (v FitView) value(x float64) string {
-	if v.Percent {
-		return FormatPercent(x)
-	}
-	return FormatValue(x)
+	return FormatWithin(x, v.Lower, v.Upper, v.Percent)
 }
 
 // whose is "your" on the expert's own page, else the expert's name with
@@ -210,10 +207,7 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 			continue
 		}
 		px := g.dens.px(x)
-		label := names[i] + " " + formatSig(x, 3)
-		if v.Percent {
-			label = names[i] + " " + formatSig(100*x, 3) + "%"
-		}
+		label := names[i] + " " + formatWithin(x, v.Lower, v.Upper, v.Percent, 3)
 		w := labelWidth(label)
 		anchor, left := "middle", px-w/2
 		switch {

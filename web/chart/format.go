@@ -50,7 +50,11 @@ func FormatProbability(p float64) string {
 // writes what formatting that double by the shortest rule would; the
 // test keeps that three-conversion form as its oracle. Subnormals, which
 // hold fewer digits, take that form.)
-func formatSig(v float64, sig int) string {
+func formatSig(v float64, sig int) string { return formatSigFixedFrom(v, sig, -4) }
+
+// formatSigFixedFrom is formatSig with fixed notation from 10^minExp
+// (minExp ≤ -4) instead of 1e-4.
+func formatSigFixedFrom(v float64, sig, minExp int) string {
 	if math.IsNaN(v) || math.IsInf(v, 0) {
 		return "not available"
 	}
@@ -98,7 +102,7 @@ func formatSig(v float64, sig int) string {
 		out = append(out, '-')
 	}
 	switch {
-	case exp >= -4 && exp < 0:
+	case exp >= minExp && exp < 0:
 		out = append(out, '0', '.')
 		for k := -1; k > exp; k-- {
 			out = append(out, '0')
@@ -129,6 +133,31 @@ func formatSig(v float64, sig int) string {
 		out = strconv.AppendInt(out, int64(exp), 10)
 	}
 	return string(out)
+}
+
+// FormatWithin writes x, a value of a quantity that lies between lower
+// and upper, for the person who gives or reads a judgement of it: with
+// FormatValue's four significant figures, or as many more as it takes to
+// stay on its own side of each bound (elicit.SideDigits), since a value
+// the question allows only strictly inside its bounds must not read as a
+// bound (0.99996 on [0, 1] is "0.99996", not "1"); in plain decimals down
+// to 1e-9 (a rare event's 0.00001, not "1e-5"); and, when percent, as a
+// percentage with the same figures (a typed 12.35% stays "12.35%", where
+// FormatPercent's three figures for chances wrote "12.3%").
+func FormatWithin(x, lower, upper float64, percent bool) string {
+	return formatWithin(x, lower, upper, percent, 4)
+}
+
+// formatWithin is FormatWithin with at least min significant figures.
+func formatWithin(x, lower, upper float64, percent bool, min int) string {
+	if math.IsNaN(x) || math.IsInf(x, 0) {
+		return "not available"
+	}
+	sig := max(elicit.SideDigits(x, lower, min), elicit.SideDigits(x, upper, min))
+	if percent {
+		return formatSigFixedFrom(x*100, sig, -9) + "%"
+	}
+	return formatSigFixedFrom(x, sig, -9)
 }
 
 // FormatPercent writes a probability as a percentage without noise:

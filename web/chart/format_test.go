@@ -187,3 +187,57 @@ func TestFormatValueBeside(t *testing.T) {
 		}
 	}
 }
+
+// A value of a judgement is written with four figures whether the expert
+// typed it as a proportion or a percentage, never rounded onto a bound
+// the question does not allow, and in plain decimals down to 1e-9.
+func TestFormatWithin(t *testing.T) {
+	for _, c := range []struct {
+		x, lo, hi float64
+		percent   bool
+		want      string
+	}{
+		{0.1235, 0, 1, false, "0.1235"},
+		{0.1235, 0, 1, true, "12.35%"}, // FormatPercent wrote 12.3%
+		{0.02345, 0, 1, true, "2.345%"},
+		{0.07, 0, 1, true, "7%"},
+		{0.99996, 0, 1, false, "0.99996"}, // FormatValue wrote 1, the bound
+		{0.99996, 0, 1, true, "99.996%"},
+		{29.99996, 0, 30, false, "29.99996"},
+		{10.00004, 10, 20, false, "10.00004"},
+		{0.00001, 0, 1, false, "0.00001"}, // FormatValue wrote 1e-5
+		{9.684e-6, 0, 1, false, "0.000009684"},
+		{0.00001, 0, 1, true, "0.001%"},
+		{3e-12, 0, 1, false, "3e-12"},
+		{0.8, 0, 1, true, "80%"},
+		{0.999999999998, 0, 1, true, "99.9999999998%"},
+	} {
+		if got := FormatWithin(c.x, c.lo, c.hi, c.percent); got != c.want {
+			t.Errorf("FormatWithin(%v, %v, %v, %v) = %q, want %q", c.x, c.lo, c.hi, c.percent, got, c.want)
+		}
+	}
+	// Whatever the value, what is written reads back strictly inside the
+	// bounds, as a proportion and as a percentage.
+	r := rand.New(rand.NewPCG(12, 390))
+	for range 20000 {
+		lo := math.Round(r.NormFloat64()*100) / 4
+		hi := lo + math.Pow(10, r.Float64()*6-2)
+		x := lo + (hi-lo)*math.Pow(r.Float64(), 8)
+		if r.IntN(2) == 0 {
+			x = hi - (hi-lo)*math.Pow(r.Float64(), 8)
+		}
+		if !(x > lo && x < hi) {
+			continue
+		}
+		for _, percent := range []bool{false, true} {
+			s := FormatWithin(x, lo, hi, percent)
+			v, err := strconv.ParseFloat(strings.TrimSuffix(s, "%"), 64)
+			if percent {
+				v /= 100
+			}
+			if err != nil || !(v > lo && v < hi) && !(percent && math.Abs(v-x) <= 1e-15*math.Abs(x)) {
+				t.Fatalf("FormatWithin(%v, %v, %v, %v) = %q reads as %v, not inside the bounds", x, lo, hi, percent, s, v)
+			}
+		}
+	}
+}

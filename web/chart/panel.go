@@ -26,10 +26,7 @@ type PanelView struct {
 
 // value writes a value of the quantity as the view's reader typed it.
 func (v PanelView) value(x float64) string {
-	if v.Percent {
-		return FormatPercent(x)
-	}
-	return FormatValue(x)
+	return FormatWithin(x, v.Lower, v.Upper, v.Percent)
 }
 
 type legendGeom struct {

@@ -125,7 +125,7 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if err != nil {
 		return m
 	}
-	value := PanelView{Percent: v.Percent}.value
+	value := PanelView{Lower: v.Lower, Upper: v.Upper, Percent: v.Percent}.value
 	m.Quartiles = []spreadQuartile{
 		{"lowest", value(ms.Lowest)},
 		{"lower quartile", value(ms.LowerQuartile)},

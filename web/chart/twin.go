@@ -362,10 +362,8 @@ func spikeCap(curves []Curve, valid []bool, tops []float64, top float64) float64
 func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	var g twinFrame
 	x0, x1, top, lower, upper := k.x0, k.x1, k.top, k.lower, k.upper
-	xv := FormatValue
-	if k.percent {
-		xv = FormatPercent
-	}
+	// The notes write the window's ends as the fit's values are written.
+	xv := func(x float64) string { return FormatWithin(x, lower, upper, k.percent) }
 	for _, t := range ticks(x0, x1, lay.XTicks) {
 		label := t.Label
 		if k.percent {
