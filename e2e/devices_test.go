@@ -236,6 +236,15 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	for name, url := range expertPages("round 1") {
 		check(carmen, "expert round 1 "+name, url, widths, true)
 	}
+	// By keyboard alone, every control shows its focus, on the phone and
+	// on a laptop, in each format.
+	for _, w := range []int64{390, 1366} {
+		carmen.viewport(w, 844, w < 600)
+		for _, i := range []int{0, 1, 2} {
+			carmen.open(qURL(i))
+			focusSeen(t, carmen, fmt.Sprintf("expert Q%d by keyboard at %d px", i+1, w))
+		}
+	}
 	// A first answer typed in percentages, read back as such.
 	carmen.viewport(390, 844, true)
 	carmen.open(qURL(0))
@@ -329,6 +338,9 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	for name, url := range facPages {
 		check(fac, "facilitator "+name, url, widths, true)
 	}
+	fac.viewport(1366, 900, false)
+	fac.open(facPages["overview"])
+	focusSeen(t, fac, "facilitator overview by keyboard")
 
 	// Round 2: the panel on the phone.
 	fac.viewport(1366, 900, false)
@@ -353,3 +365,63 @@ func TestEveryPageOnAPhone(t *testing.T) {
 
 // fmtFour writes x as the pages do, four significant figures.
 func fmtFour(x float64) string { return chart.FormatValue(x) }
+
+// focusSeen walks the page by the keyboard alone, from its top, and
+// checks that every control Tab reaches shows a focus ring (WCAG 2.4.7)
+// of at least 2 px whose colour stands at 3:1 or more against what lies
+// just outside it (1.4.11). It returns the controls in the order reached.
+// The skip link is left out: it is itself what appears on focus, a white
+// box with its own border, over the masthead.
+func focusSeen(t *testing.T, p *person, where string) []string {
+	t.Helper()
+	eval[bool](p, "start from the top", `document.activeElement && document.activeElement.blur(); window.scrollTo(0, 0); true`)
+	var order []string
+	seen := map[string]bool{}
+	for range 60 {
+		p.do("press Tab", chromedp.KeyEvent(kb.Tab))
+		got := eval[[]string](p, "the focused control", `(() => {
+			const el = document.activeElement;
+			if (!el || el === document.body) return [];
+			const name = (el.tagName.toLowerCase() + (el.id ? "#" + el.id : "") + " " + (el.getAttribute("aria-label") || el.textContent || el.value || "").trim().slice(0, 30)).trim();
+			const key = name + "@" + Math.round(el.getBoundingClientRect().top + scrollY) + "," + Math.round(el.getBoundingClientRect().left);
+			if (el.classList.contains("skip-link")) return [key, name, ""];
+			const cs = getComputedStyle(el);
+			const w = cs.outlineStyle === "none" ? 0 : parseFloat(cs.outlineWidth) || 0;
+			if (w < 2) return [key, name, "no focus ring (outline " + cs.outlineStyle + " " + cs.outlineWidth + ")"];
+			const rgb = c => (c.match(/[\d.]+/g) || []).map(Number);
+			const lum = c => { const v = rgb(c).slice(0, 3).map(x => { x /= 255; return x <= 0.03928 ? x / 12.92 : Math.pow((x + 0.055) / 1.055, 2.4); }); return 0.2126 * v[0] + 0.7152 * v[1] + 0.0722 * v[2]; };
+			const r = el.getBoundingClientRect();
+			const off = parseFloat(cs.outlineOffset) || 0;
+			// What lies just outside the ring, at the middle of its left edge
+			// (inside the element for a ring drawn inside it).
+			let x = r.left - off - w - 1, y = r.top + r.height / 2;
+			if (off < 0) x = r.left - off + 1;
+			let under = null;
+			for (const e of document.elementsFromPoint(Math.max(0, x), y)) {
+				if (off >= 0 && (e === el || el.contains(e))) continue;
+				under = e; break;
+			}
+			let bg = "rgb(255, 255, 255)";
+			for (let e = under; e; e = e.parentElement) {
+				const c = getComputedStyle(e).backgroundColor;
+				const a = rgb(c)[3];
+				if (c !== "transparent" && a !== 0) { bg = c; break; }
+			}
+			const a = lum(cs.outlineColor), b = lum(bg);
+			const ratio = (Math.max(a, b) + 0.05) / (Math.min(a, b) + 0.05);
+			return [key, name, ratio < 3 ? "focus ring " + cs.outlineColor + " on " + bg + ": contrast " + ratio.toFixed(2) + ":1" : ""];
+		})()`)
+		if len(got) == 0 || seen[got[0]] {
+			break
+		}
+		seen[got[0]] = true
+		order = append(order, got[1])
+		if got[2] != "" {
+			t.Errorf("%s: %s: %s", where, got[1], got[2])
+		}
+	}
+	if len(order) < 3 {
+		t.Errorf("%s: the keyboard reached only %q", where, order)
+	}
+	return order
+}
