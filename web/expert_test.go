@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"errors"
+	"fmt"
 	"html"
 	"io"
 	"net/http"
@@ -713,6 +714,43 @@ func TestLivePreviewInChromium(t *testing.T) {
 	}
 	if n := len(g.revisions()); n != 0 {
 		t.Errorf("live preview saved %d revisions", n)
+	}
+}
+
+// TestLivePreviewAfterTheLinkEnds: when the expert's link is ended while
+// their question is open, the next live preview says why in one
+// paragraph, in place of the picture; the page the server answers is not
+// drawn inside the expert's page (a second masthead, main and footer).
+func TestLivePreviewAfterTheLinkEnds(t *testing.T) {
+	ctx := browsertest.Start(t, 60*time.Second, 390, 844)
+	g := newExpertRig(t)
+	if err := chromedp.Do(ctx, chromedp.Navigate(g.srv.URL+g.qpath(0, g.q))); err != nil {
+		t.Fatalf("open the question: %v", err)
+	}
+	if err := g.db.RevokeExpert(context.Background(), g.experts[0].ID, "Left the panel (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	step, cancelStep := context.WithTimeout(ctx, 15*time.Second)
+	defer cancelStep()
+	if err := chromedp.Do(step, chromedp.SendKeys(chromedp.CSS("#f-values-0"), "0.05")); err != nil {
+		t.Fatalf("type: %v", err)
+	}
+	if _, err := chromedp.Run(step, chromedp.Poll[bool](`document.getElementById("preview").hasAttribute("data-updated")`)); err != nil {
+		t.Fatalf("wait for the preview: %v", err)
+	}
+	got, err := chromedp.Run(ctx, chromedp.Evaluate[[]any](`[document.getElementById("preview").innerText.trim(),
+		document.querySelectorAll("header.masthead").length, document.querySelectorAll("main").length,
+		document.querySelectorAll("footer").length, document.querySelectorAll("#preview .preview-problem[role=status]").length]`))
+	if err != nil {
+		t.Fatal(err)
+	}
+	text, _ := got[0].(string)
+	if !strings.Contains(text, "This link does not work.") || !strings.Contains(text, "Please ask the facilitator for your current link.") ||
+		!strings.Contains(text, "Your values are still in the form.") {
+		t.Errorf("the preview after the link ended says %q", text)
+	}
+	if fmt.Sprint(got[1:]) != "[1 1 1 1]" {
+		t.Errorf("mastheads, mains, footers and preview messages on the page: %v, want one each", got[1:])
 	}
 }
 

@@ -13,6 +13,25 @@
   if (!forms.length || !window.fetch || !window.FormData || !window.URLSearchParams) {
     return;
   }
+  // pageMessage turns a whole page answered instead of the preview into
+  // one paragraph of its heading and message, so that the expert reads
+  // why (such as "ask the facilitator for your current link") without a
+  // second page drawn inside this one.
+  function pageMessage(html) {
+    var doc = new DOMParser().parseFromString(html, "text/html");
+    var main = doc.querySelector("main") || doc.body;
+    var parts = [];
+    Array.prototype.forEach.call(main.querySelectorAll("h1, .message p, .form-error"), function (el) {
+      var t = el.textContent.trim();
+      if (t) { parts.push(t.replace(/[.:]?$/, ".")); }
+    });
+    var p = document.createElement("p");
+    p.className = "preview-problem";
+    p.setAttribute("role", "status");
+    p.textContent = (parts.length ? parts.join(" ") : "The fit could not be shown just now.") +
+      " Your values are still in the form.";
+    return p.outerHTML;
+  }
   Array.prototype.forEach.call(forms, function (form) {
     var target = document.getElementById(form.getAttribute("data-preview-target"));
     var url = form.getAttribute("data-preview");
@@ -40,7 +59,12 @@
           }, 1000);
           return null;
         }
-        return resp.text();
+        // 200 is the picture, 422 what stops the fit, both fragments of
+        // the preview; any other answer is a whole page (a link ended or
+        // replaced, the server failing), whose message alone is shown.
+        return resp.text().then(function (html) {
+          return resp.ok || resp.status === 422 ? html : pageMessage(html);
+        });
       }).then(function (html) {
         if (html === null || ticket !== latest) {
           return;
