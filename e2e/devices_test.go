@@ -92,6 +92,15 @@ func newDeviceRig(t *testing.T) *deviceRig {
 	return g
 }
 
+// twentieths are the edges of twenty equal bins over [0, 1].
+func twentieths() []float64 {
+	edges := make([]float64, 21)
+	for i := range edges {
+		edges[i] = float64(i) / 20
+	}
+	return edges
+}
+
 func (g *deviceRig) wsURL() string { return g.site.URL + "/w/" + strconv.FormatInt(g.ws.ID, 10) }
 
 // fits checks the page at the person's current width: no sideways
@@ -129,6 +138,24 @@ func fits(t *testing.T, p *person, where string, width int64) {
 		return out;
 	})()`); len(close) > 0 {
 		t.Errorf("%s at %d px: a label sits against the box above it: %q", where, width, close)
+	}
+	// The chips board: every button at least 24 px each way (WCAG 2.5.8),
+	// every bin's range in at most two lines.
+	if small := eval[[]string](p, "the chips board's targets", `(() => {
+		const out = [];
+		for (const b of document.querySelectorAll(".chips-add, .chips-take")) {
+			const r = b.getBoundingClientRect();
+			if (r.width && (r.width < 24 || r.height < 24)) out.push(b.getAttribute("aria-label") + " " + Math.round(r.width) + "×" + Math.round(r.height) + " px");
+		}
+		for (const l of document.querySelectorAll(".chips-range")) {
+			const range = document.createRange();
+			range.selectNodeContents(l);
+			const lines = new Set(Array.from(range.getClientRects()).map(r => Math.round(r.top))).size;
+			if (lines > 2) out.push("the range " + l.textContent + " in " + lines + " lines");
+		}
+		return out.slice(0, 4);
+	})()`); len(small) > 0 {
+		t.Errorf("%s at %d px: the chips board is too cramped to use: %q", where, width, small)
 	}
 	problems := eval[[]string](p, "pictures' boxes", `(() => {
 		const out = [];
@@ -236,15 +263,6 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	for name, url := range expertPages("round 1") {
 		check(carmen, "expert round 1 "+name, url, widths, true)
 	}
-	// By keyboard alone, every control shows its focus, on the phone and
-	// on a laptop, in each format.
-	for _, w := range []int64{390, 1366} {
-		carmen.viewport(w, 844, w < 600)
-		for _, i := range []int{0, 1, 2} {
-			carmen.open(qURL(i))
-			focusSeen(t, carmen, fmt.Sprintf("expert Q%d by keyboard at %d px", i+1, w))
-		}
-	}
 	// A first answer typed in percentages, read back as such.
 	carmen.viewport(390, 844, true)
 	carmen.open(qURL(0))
@@ -338,9 +356,6 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	for name, url := range facPages {
 		check(fac, "facilitator "+name, url, widths, true)
 	}
-	fac.viewport(1366, 900, false)
-	fac.open(facPages["overview"])
-	focusSeen(t, fac, "facilitator overview by keyboard")
 
 	// Round 2: the panel on the phone.
 	fac.viewport(1366, 900, false)
@@ -361,6 +376,83 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	carmen.sees("round 2 feedback on a phone", "What the other experts said", "Their reasons", "From the district's own burst log (invented).")
 	shots.take(carmen, "device-expert-round2-Q1-390")
 	check(fac, "facilitator panel, round 2", facPages["panel Q1"], []int64{390, 1366}, true)
+}
+
+// TestKeyboardAndCrowdedChips walks the expert's pages by keyboard alone
+// at 390 and 1366 px, and the facilitator's overview, checking each focus
+// ring (focusSeen); and answers a question of twenty bins, the most a
+// question may have, on the narrowest phone. It takes the expert's pages
+// at 1366 px for review too.
+func TestKeyboardAndCrowdedChips(t *testing.T) {
+	g := newDeviceRig(t)
+	q := workshop.Question{WorkshopID: g.ws.ID, Wording: "Where does the proportion of hydrants that leak at the spindle lie? Place your chips.",
+		Quantity: "leaking-hydrant proportion", Lower: 0, Upper: 1, Format: workshop.FormatChips, BinEdges: twentieths(), Chips: 40}
+	if err := g.site.DB.AddQuestion(context.Background(), &q); err != nil {
+		t.Fatal(err)
+	}
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	carmen := br.person("Carmen (on a phone)")
+	link := g.links["Carmen Ruiz (invented)"]
+	qURL := func(i int) string { return link + "q/" + strconv.FormatInt(g.qs[i].ID, 10) }
+	crowded := link + "q/" + strconv.FormatInt(q.ID, 10)
+
+	// By keyboard alone, every control shows its focus, on the phone and
+	// on a laptop, in each format.
+	for _, w := range []int64{390, 1366} {
+		carmen.viewport(w, 844, w < 600)
+		for _, i := range []int{0, 1, 2} {
+			carmen.open(qURL(i))
+			focusSeen(t, carmen, fmt.Sprintf("expert Q%d by keyboard at %d px", i+1, w))
+		}
+	}
+	carmen.viewport(1366, 900, false)
+	carmen.open(link)
+	shots.take(carmen, "device-expert-home-1366")
+	for i := range g.qs {
+		carmen.open(qURL(i))
+		shots.take(carmen, fmt.Sprintf("device-expert-Q%d-%s-1366", i+1, g.qs[i].Format))
+	}
+
+	// Twenty bins on the narrowest phone: the board turns on its side, a
+	// row per bin, placed by tap and by keyboard.
+	carmen.viewport(360, 780, true)
+	carmen.open(crowded)
+	carmen.waitFor("the chips board on its side", `document.querySelector(".chips-board.chips-rows") !== null`)
+	carmen.do("tap the last bin twice", chromedp.Click(chromedp.CSS(`.chips-bin:nth-child(20) .chips-add`)), chromedp.Click(chromedp.CSS(`.chips-bin:nth-child(20) .chips-add`)))
+	carmen.do("focus the first bin", chromedp.Focus(chromedp.CSS(`.chips-bin:nth-child(1)`)))
+	carmen.do("to the last bin and one more chip", chromedp.KeyEvent(kb.End), chromedp.KeyEvent(kb.ArrowUp))
+	if v := carmen.value(`#f-counts-19`); v != "3" {
+		t.Errorf("twenty bins on a phone: the last bin holds %q after two taps and a key, want 3", v)
+	}
+	fits(t, carmen, "twenty bins on a phone", 360)
+	shots.take(carmen, "device-chips-twenty-bins-360")
+	// Every chip in one bin still shows, inside its bin: forty in a row
+	// of the board on its side (at 360 and 1366 px), and all 24 of the
+	// eight-bin board in an upright column.
+	allInOne := func(url string, bin, chips int, widths ...int64) {
+		carmen.open(url)
+		eval[bool](carmen, "place every chip in one bin", fmt.Sprintf(`(() => { for (let i = 0; i < 60; i++) document.querySelector(".chips-bin:nth-child(%d) .chips-add").click(); return true; })()`, bin))
+		for _, w := range widths {
+			carmen.viewport(w, 844, w < 600)
+			sel := fmt.Sprintf(".chips-bin:nth-child(%d) .chips-stack", bin)
+			outside := eval[int](carmen, "chips outside their bin", fmt.Sprintf(`(() => {
+				const stack = document.querySelector(%q), s = stack.getBoundingClientRect();
+				return Array.from(stack.querySelectorAll(".chip")).filter(c => { const r = c.getBoundingClientRect(); return r.right > s.right + 0.5 || r.top < s.top - 0.5 || r.width < 1 || r.height < 1; }).length;
+			})()`, sel))
+			if drawn := carmen.count(sel + " .chip"); outside > 0 || drawn != chips {
+				t.Errorf("%d chips in one bin at %d px: %d drawn, %d of them outside the bin", chips, w, drawn, outside)
+			}
+		}
+	}
+	allInOne(crowded, 20, 40, 360, 1366)
+	allInOne(qURL(2), 1, workshop.DefaultChips, 1366)
+
+	fac := br.person("facilitator")
+	signIn(t, g.site, fac)
+	fac.viewport(1366, 900, false)
+	fac.open(g.wsURL())
+	focusSeen(t, fac, "facilitator overview by keyboard")
 }
 
 // fmtFour writes x as the pages do, four significant figures.

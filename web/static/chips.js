@@ -9,6 +9,11 @@
 // column; + or ↑ places a chip, − or ↓ takes one away, ← and → move to the
 // neighbouring bin. Each change is announced. The boxes stay the form's
 // values, so saving, the live preview and the plain form are unchanged.
+//
+// Where the columns would be too narrow to tap (many bins on a phone:
+// twenty bins on 360 px left 10 px buttons and ranges broken a digit to a
+// line), the board turns on its side: one row per bin, its range on the
+// left, the chips stacked rightwards, and its buttons at the end.
 (function () {
   "use strict";
   var board = document.querySelector(".chips-board");
@@ -77,7 +82,7 @@
     if (!readonly) { col.appendChild(buttons); }
     col.appendChild(edge);
     grid.appendChild(col);
-    columns.push({ col: col, stack: stack, add: add, take: take });
+    columns.push({ col: col, stack: stack, add: add, take: take, range: edge });
 
     if (readonly) { return; }
     add.addEventListener("click", function (ev) { ev.stopPropagation(); change(i, +1); });
@@ -120,11 +125,29 @@
 
   function say(text) { status.textContent = text; }
 
+  // minColumn is the narrowest column, in px, whose buttons are still
+  // comfortable to tap (at least 24 px wide, WCAG 2.5.8, with room for its
+  // range on two lines).
+  var minColumn = 32;
+  function layout() {
+    board.classList.remove("chips-rows");
+    var cramped = columns.some(function (c) {
+      var line = parseFloat(getComputedStyle(c.range).lineHeight) || 16;
+      return c.col.clientWidth < minColumn || c.range.clientHeight > 2.5 * line;
+    });
+    board.classList.toggle("chips-rows", cramped);
+  }
+
   function draw() {
     var most = 1;
     for (var i = 0; i < inputs.length; i++) { most = Math.max(most, count(i)); }
-    // Chips shrink when a stack would grow past the board's height.
-    var size = Math.max(4, Math.min(14, Math.floor(150 / most)));
+    // Chips shrink when a stack would grow past the board's height, or,
+    // on its side, past the row's length.
+    var rows = board.classList.contains("chips-rows");
+    var stack = columns.length ? columns[0].stack : null;
+    var room = stack ? (rows ? stack.clientWidth : stack.clientHeight) - 6 : 150;
+    // A chip and the 1 px gap after it fit `most` times.
+    var size = Math.max(2, Math.min(14, Math.floor((room + 1) / most) - 1));
     columns.forEach(function (c, i) {
       var n = count(i);
       while (c.stack.children.length > n) { c.stack.removeChild(c.stack.lastChild); }
@@ -134,7 +157,10 @@
         chip.setAttribute("aria-hidden", "true");
         c.stack.appendChild(chip);
       }
-      Array.prototype.forEach.call(c.stack.children, function (chip) { chip.style.height = size + "px"; });
+      Array.prototype.forEach.call(c.stack.children, function (chip) {
+        chip.style.height = rows ? "" : size + "px";
+        chip.style.width = rows ? size + "px" : "";
+      });
       c.col.setAttribute("aria-valuenow", String(n));
       c.col.setAttribute("aria-valuetext", n + (n === 1 ? " chip " : " chips ") + labels[i]);
     });
@@ -155,5 +181,7 @@
   // Typing in a box (still there for screen readers that prefer it)
   // redraws the board too.
   inputs.forEach(function (inp) { inp.addEventListener("input", draw); });
+  layout();
   draw();
+  window.addEventListener("resize", function () { layout(); draw(); });
 })();
