@@ -406,6 +406,26 @@ func TestKeyboardAndCrowdedChips(t *testing.T) {
 			focusSeen(t, carmen, fmt.Sprintf("expert Q%d by keyboard at %d px", i+1, w))
 		}
 	}
+	// The reason's count of characters left describes the box and is
+	// announced only near the limit, not at every keystroke.
+	carmen.viewport(390, 844, true)
+	carmen.open(qURL(0))
+	carmen.do("type a reason", chromedp.SendKeys(chromedp.CSS("#f-reason"), "abc"))
+	count := func() []string {
+		return eval[[]string](carmen, "the reason's count", `(() => {
+			const ta = document.getElementById("f-reason"), note = document.getElementById("f-reason-count");
+			const live = Array.from(document.querySelectorAll("[aria-live]")).filter(e => e.closest(".field") === ta.closest(".field")).map(e => e.id + ":" + e.textContent.trim());
+			return [String((ta.getAttribute("aria-describedby") || "").split(" ").includes("f-reason-count")), note.textContent, live.join(" | ")];
+		})()`)
+	}
+	if got := count(); got[0] != "true" || got[1] != "3997 of 4000 characters left" || got[2] != ":" {
+		t.Errorf("after three letters the count reads %q, described %s, and tells a screen reader %q (want nothing)", got[1], got[0], got[2])
+	}
+	eval[bool](carmen, "a long reason", `(() => { const ta = document.getElementById("f-reason"); ta.value = "x".repeat(3700); ta.dispatchEvent(new Event("input", {bubbles: true})); return true; })()`)
+	if got := count(); got[2] != ":300 of 4000 characters left." {
+		t.Errorf("near the limit a screen reader is told %q, want 300 of 4000 left", got[2])
+	}
+
 	carmen.viewport(1366, 900, false)
 	carmen.open(link)
 	shots.take(carmen, "device-expert-home-1366")

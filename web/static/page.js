@@ -3,7 +3,9 @@
 //
 // 1. Text areas with a length limit show, as the person types, how many
 //    characters are left; the browser's maxlength already stops them at
-//    the limit, and the server checks it again.
+//    the limit, and the server checks it again. The count describes the
+//    text area; a screen reader is told only when the count falls below a
+//    tenth of the limit and when it reaches none, not at every keystroke.
 // 2. A table or picture that is wider than the screen scrolls inside its
 //    own box (the stylesheet does that); such a box becomes reachable by
 //    keyboard and is named for screen readers after its caption or the
@@ -16,12 +18,24 @@
     var note = document.createElement("span");
     note.className = "text-count";
     note.id = ta.id + "-count";
-    note.setAttribute("aria-live", "polite");
     ta.insertAdjacentElement("afterend", note);
+    var described = ta.getAttribute("aria-describedby");
+    ta.setAttribute("aria-describedby", (described ? described + " " : "") + note.id);
+    var told = document.createElement("span");
+    told.className = "visually-hidden";
+    told.setAttribute("aria-live", "polite");
+    note.insertAdjacentElement("afterend", told);
+    var zone = "";
     function show() {
       var left = max - ta.value.length;
       note.textContent = left + " of " + max + " characters left";
-      note.classList.toggle("text-count-near", left < max / 10);
+      var near = left < max / 10;
+      note.classList.toggle("text-count-near", near);
+      var now = left <= 0 ? "none" : near ? "near" : "";
+      if (now !== zone) {
+        told.textContent = now === "none" ? "No characters left: the limit is " + max + "." : now === "near" ? left + " of " + max + " characters left." : "";
+        zone = now;
+      }
     }
     ta.addEventListener("input", show);
     show();
