@@ -316,6 +316,19 @@ func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) ans
 	return f
 }
 
+// previewInviteText begins previewInvite's sentence as HTML: "Place your
+// chips", "Enter Priya Raman's values" (the name escaped).
+func previewInviteText(format workshop.AnswerFormat, name string) string {
+	whose := "your"
+	if name != "" {
+		whose = templ.EscapeString(name) + "'s"
+	}
+	if format == workshop.FormatChips {
+		return "Place " + whose + " chips"
+	}
+	return "Enter " + whose + " values"
+}
+
 // answerValues writes a saved answer back as form values, for
 // pre-filling, as the expert typed it.
 func answerValues(q workshop.Question, a workshop.Answer) map[string]string {

@@ -760,6 +760,13 @@ func TestExpertChipsForm(t *testing.T) {
 	if code != http.StatusOK || !strings.Contains(page, "Place your 20 chips") || !strings.Contains(page, "Chips from 0.3 to 0.5") {
 		t.Fatalf("chips page: status %d", code)
 	}
+	// Before a fit, the page asks for chips to be placed, not values.
+	if !strings.Contains(page, "Place your chips and choose <em>Show the fit</em>") || strings.Contains(page, "Enter your values") {
+		t.Error("the chips page asks the expert to enter values")
+	}
+	if _, q := g.get(g.qpath(0, g.q)); !strings.Contains(q, "Enter your values and choose <em>Show the fit</em>") {
+		t.Error("the quantiles page does not ask for values")
+	}
 	chips := func(cs ...string) url.Values {
 		f := url.Values{}
 		for i, c := range cs {
@@ -867,5 +874,13 @@ func TestRevealedQuestionWithoutAnAnswer(t *testing.T) {
 		if strings.Contains(page, wrong) {
 			t.Errorf("the page says %q", wrong)
 		}
+	}
+}
+
+// The invitation before a fit takes the expert's name as text, never as
+// markup.
+func TestPreviewInviteEscapesTheName(t *testing.T) {
+	if got, want := previewInviteText(workshop.FormatChips, "<b>O'Neil</b>"), "Place &lt;b&gt;O&#39;Neil&lt;/b&gt;'s chips"; got != want {
+		t.Errorf("got %q, want %q", got, want)
 	}
 }
