@@ -287,6 +287,25 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 	return "Parley cannot fit a curve to these values as they are: " + strings.TrimSuffix(string(ie.Rule), ".") + ". Please check them."
 }
 
+// readReason reads the expert's reason, saying what is wrong with it in
+// words for the expert: f.Text's rule words ("must be plain text (no
+// control characters) (character U+0007)") are the facilitator's.
+func readReason(f *Form) string {
+	reason, err := input.Text("reason", f.Value("reason"), input.MaxLongText, false)
+	var ie *elicit.InputError
+	switch {
+	case err == nil:
+		return reason
+	case errors.As(err, &ie) && ie.Rule == input.RuleTooLong:
+		f.set("reason", fmt.Sprintf("This is %d characters long; the most is %d. Please shorten it.", len([]rune(strings.TrimSpace(f.Value("reason")))), input.MaxLongText))
+	case errors.As(err, &ie) && ie.Rule == input.RuleTextValid:
+		f.set("reason", "This holds an invisible character that cannot be kept, often brought along when text is pasted from another program. Please retype the part you pasted.")
+	default:
+		f.set("reason", "Parley could not keep this text. Please check it.")
+	}
+	return ""
+}
+
 // previousLabel names the value a field must exceed, as the form labels it.
 func previousLabel(q workshop.Question, field string) string {
 	switch field {

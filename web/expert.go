@@ -19,7 +19,6 @@ import (
 	"github.com/go-chi/chi/v5"
 
 	"github.com/parley-elicit/parley/elicit"
-	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/internal/turns"
 	"github.com/parley-elicit/parley/web/chart"
@@ -394,6 +393,15 @@ func describedBy(f formField) templ.Attributes {
 	return templ.Attributes{"aria-describedby": strings.Join(ids, " ")}
 }
 
+// reasonDescribedBy ties the reason's box to its hint and, when it has
+// one, its message.
+func reasonDescribedBy(msg string) string {
+	if msg != "" {
+		return "f-reason-hint f-reason-error"
+	}
+	return "f-reason-hint"
+}
+
 // expertRoutes are mounted under /e/{token} behind requireExpert, so
 // every handler here acts for expertFrom(ctx) and no other. No expert or
 // revision id ever appears in these URLs.
@@ -570,7 +578,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	reason := f.Text("reason", input.MaxLongText, false)
+	reason := readReason(f)
 	a, fit, ok := readAnswer(sc.question, f)
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.

@@ -378,3 +378,34 @@ func TestValuesReadBackAsTyped(t *testing.T) {
 		t.Errorf("the preview of a rare event shows an exponent (%s)", m)
 	}
 }
+
+// A refused reason is marked as every other field is, tied to its box for
+// a screen reader, and said in the expert's words, not the rule's.
+func TestReasonRefusedInTheExpertsWords(t *testing.T) {
+	g := newExpertRig(t)
+	f := quantiles("0.1", "0.2", "0.3")
+	f.Set("reason", "From the burst log\x07 (invented).")
+	r, body := g.post(g.qpath(0, g.q)+"/save", f)
+	if r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("a reason with a control character: %d", r.StatusCode)
+	}
+	msg := shownError(body, "f-reason")
+	if !strings.Contains(msg, "invisible character") || strings.Contains(msg, "control character") || strings.Contains(msg, "U+") {
+		t.Errorf("the reason's message: %q", msg)
+	}
+	box := regexp.MustCompile(`<textarea[^>]*id="f-reason"[^>]*>`).FindString(body)
+	if !strings.Contains(box, `aria-invalid="true"`) || !strings.Contains(box, `aria-describedby="f-reason-hint f-reason-error"`) {
+		t.Errorf("the reason's box is not tied to its message: %s", box)
+	}
+	if !regexp.MustCompile(`<div class="field field-invalid">\s*<label for="f-reason"`).MatchString(body) {
+		t.Error("the reason's field is not marked as refused")
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved", n)
+	}
+	// Unrefused, the box says it is valid and names its hint only.
+	_, page := g.get(g.qpath(0, g.q))
+	if box := regexp.MustCompile(`<textarea[^>]*id="f-reason"[^>]*>`).FindString(page); !strings.Contains(box, `aria-invalid="false"`) || !strings.Contains(box, `aria-describedby="f-reason-hint"`) {
+		t.Errorf("the reason's box at rest: %s", box)
+	}
+}
