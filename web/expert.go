@@ -611,8 +611,14 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		again(http.StatusConflict, frozenMessage, "", nil)
 		return
 	}
-	if !ok || !f.OK() {
+	if !ok {
 		again(http.StatusUnprocessableEntity, "", "", nil)
+		return
+	}
+	if !f.OK() {
+		// Only the reason was refused: the values fit, and their picture
+		// stays in view while the reason is put right.
+		again(http.StatusUnprocessableEntity, "", "", &fit)
 		return
 	}
 	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."

@@ -400,6 +400,10 @@ func TestReasonRefusedInTheExpertsWords(t *testing.T) {
 	if !regexp.MustCompile(`<div class="field field-invalid">\s*<label for="f-reason"`).MatchString(body) {
 		t.Error("the reason's field is not marked as refused")
 	}
+	// The values fit: their picture stays, without "No fit yet".
+	if !strings.Contains(body, "What your numbers imply") || strings.Contains(body, "No fit yet") {
+		t.Error("a save refused for its reason alone does not show the values' fit")
+	}
 	if n := len(g.revisions()); n != 0 {
 		t.Errorf("%d revisions saved", n)
 	}
