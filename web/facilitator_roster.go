@@ -6,6 +6,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/a-h/templ"
+
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -157,18 +159,7 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", input.MaxLongText, false)
-	if !f.OK() || f.Value("confirm") != "yes" {
-		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
-		if err != nil {
-			s.fail(w, r, err)
-			return
-		}
-		status := http.StatusOK
-		if !f.OK() {
-			status = http.StatusUnprocessableEntity
-		}
-		s.renderPage(w, r, status, facilitatorMeta(ws, "Revoke "+e.Name, "overview"),
-			revokePage(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
+	if !s.confirmed(w, r, ws, e, f, "Revoke "+e.Name, revokePage) {
 		return
 	}
 	if err := s.store.RevokeExpert(r.Context(), e.ID, reason); err != nil {
@@ -199,18 +190,7 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 	// As for revoking, a new link is confirmed first: "New link" stands
 	// beside "Revoke…" on the overview, and a click by mistake would end
 	// an expert's working link in the middle of a round.
-	if !f.OK() || f.Value("confirm") != "yes" {
-		revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
-		if err != nil {
-			s.fail(w, r, err)
-			return
-		}
-		status := http.StatusOK
-		if !f.OK() {
-			status = http.StatusUnprocessableEntity
-		}
-		s.renderPage(w, r, status, facilitatorMeta(ws, "New link for "+e.Name, "overview"),
-			reissuePage(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
+	if !s.confirmed(w, r, ws, e, f, "New link for "+e.Name, reissuePage) {
 		return
 	}
 	token, hash, err := newToken()
@@ -228,6 +208,29 @@ func (s *Server) reissueLink(w http.ResponseWriter, r *http.Request) {
 	}
 	e.Revoked = false
 	s.redirectToLink(w, r, ws, e, token)
+}
+
+// confirmed reports whether a change to expert e's access was confirmed
+// (confirm=yes) with a valid form; otherwise it answers with the page
+// asking for the confirmation, the reason kept (422 when the form has an
+// error), and returns false.
+func (s *Server) confirmed(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, e workshop.Expert, f *Form,
+	title string, page func(revokeView) templ.Component) bool {
+	if f.OK() && f.Value("confirm") == "yes" {
+		return true
+	}
+	revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return false
+	}
+	status := http.StatusOK
+	if !f.OK() {
+		status = http.StatusUnprocessableEntity
+	}
+	s.renderPage(w, r, status, facilitatorMeta(ws, title, "overview"),
+		page(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
+	return false
 }
 
 func answersLabel(n int) string {
