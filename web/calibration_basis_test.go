@@ -61,6 +61,11 @@ func TestRecordReproducesEachPool(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
+	// The import's validation forms each pooled prior's pool again, under
+	// performance weights too, and takes the record as exported.
+	if err := rec.Validate(); err != nil {
+		t.Fatalf("the exported record does not validate: %v", err)
+	}
 	hist := rec.WeightHistory
 	if len(hist) != 3 || hist[0].Basis == nil || hist[1].Basis != nil || hist[2].Basis == nil || rec.Weights.ID != hist[2].ID {
 		t.Fatalf("history %+v, in force %d", hist, rec.Weights.ID)
