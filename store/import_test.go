@@ -450,9 +450,7 @@ func TestImportRefusesAnEditedPooledPrior(t *testing.T) {
 	src := newDB(t)
 	p := fullWorkshop(t, src)
 	rec, err := src.Record(ctx, p.w.ID, exportTime)
-	if err != nil {
-		t.Fatal(err)
-	}
+	must(t, err)
 	ap := &rec.Questions[0].PriorHistory[0]
 	if ap.Source != workshop.PriorFromPool || len(ap.Pooled) != 2 {
 		t.Fatalf("the first prior is %s pooling %v", ap.Source, ap.Pooled)

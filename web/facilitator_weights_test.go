@@ -19,31 +19,7 @@ import (
 // largest weight first. Expected value: 1e308 / (4 × 1e308) = 1/4 by
 // hand.
 func TestHugeWeightsShowTheirShares(t *testing.T) {
-	h, ws, qs, es, _ := seeded(t)
-	if len(es) != 4 {
-		t.Fatalf("the demo has %d experts, want 4", len(es))
-	}
-	// A question every demo expert answered.
-	revs, err := h.db.Revisions(context.Background(), ws.ID)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var q workshop.Question
-	for _, cand := range qs {
-		who := map[int64]bool{}
-		for _, rv := range revs {
-			if rv.QuestionID == cand.ID {
-				who[rv.ExpertID] = true
-			}
-		}
-		if len(who) == 4 {
-			q = cand
-			break
-		}
-	}
-	if q.ID == 0 {
-		t.Fatal("no demo question has answers from all four experts")
-	}
+	h, ws, q, es := answeredByAll(t)
 	qp := questionPath(ws.ID, q.ID)
 	form := url.Values{"scheme": {"custom"}, "reason": {"Weights at the edge of float64 (invented)"}}
 	for _, e := range es {
@@ -99,32 +75,7 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 // 0.332% (by hand); the log wrote them 0.33 and 0.00, telling the
 // reader the fourth expert did not count at all.
 func TestLogWritesSharesAsThePanel(t *testing.T) {
-	h, ws, qs, es, _ := seeded(t)
-	if len(es) != 4 {
-		t.Fatalf("the demo has %d experts, want 4", len(es))
-	}
-	// A question every demo expert answered, so the panel's shares are
-	// the weight set's.
-	revs, err := h.db.Revisions(context.Background(), ws.ID)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var q workshop.Question
-	for _, cand := range qs {
-		who := map[int64]bool{}
-		for _, rv := range revs {
-			if rv.QuestionID == cand.ID {
-				who[rv.ExpertID] = true
-			}
-		}
-		if len(who) == 4 {
-			q = cand
-			break
-		}
-	}
-	if q.ID == 0 {
-		t.Fatal("no demo question has answers from all four experts")
-	}
+	h, ws, q, es := answeredByAll(t)
 	qp := questionPath(ws.ID, q.ID)
 	form := url.Values{"scheme": {"custom"}, "reason": {"One expert nearly left out (invented)"}}
 	for i, e := range es {
@@ -169,4 +120,32 @@ func TestWeightForAnUnknownExpertRefused(t *testing.T) {
 	if after := h.counts(ws.ID); after != before {
 		t.Errorf("saved: %v, then %v", before, after)
 	}
+}
+
+// answeredByAll is the seeded demo with a question that all four of its
+// experts answered, so the panel's shares of the pool are the weight
+// set's.
+func answeredByAll(t *testing.T) (*harness, workshop.Workshop, workshop.Question, []workshop.Expert) {
+	t.Helper()
+	h, ws, qs, es, _ := seeded(t)
+	if len(es) != 4 {
+		t.Fatalf("the demo has %d experts, want 4", len(es))
+	}
+	revs, err := h.db.Revisions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, cand := range qs {
+		who := map[int64]bool{}
+		for _, rv := range revs {
+			if rv.QuestionID == cand.ID {
+				who[rv.ExpertID] = true
+			}
+		}
+		if len(who) == 4 {
+			return h, ws, cand, es
+		}
+	}
+	t.Fatal("no demo question has answers from all four experts")
+	return nil, workshop.Workshop{}, workshop.Question{}, nil
 }

@@ -29,11 +29,10 @@ func newKept[T any](life time.Duration) *kept[T] {
 
 // keep remembers v until now+life and returns its key.
 func (k *kept[T]) keep(v T, now time.Time) (string, error) {
-	b := make([]byte, 16)
-	if _, err := rand.Read(b); err != nil {
+	key, err := randomKey()
+	if err != nil {
 		return "", err
 	}
-	key := hex.EncodeToString(b)
 	k.mu.Lock()
 	defer k.mu.Unlock()
 	for old, it := range k.items {
@@ -86,4 +85,14 @@ func (k *kept[T]) untake(key string) {
 		it.taken = false
 		k.items[key] = it
 	}
+}
+
+// randomKey is 128 random bits in hex: a kept value's key, a form's key
+// (once.go).
+func randomKey() (string, error) {
+	b := make([]byte, 16)
+	if _, err := rand.Read(b); err != nil {
+		return "", err
+	}
+	return hex.EncodeToString(b), nil
 }

@@ -2,9 +2,7 @@ package web
 
 import (
 	"context"
-	"crypto/rand"
 	"crypto/sha256"
-	"encoding/hex"
 	"io"
 	"mime"
 	"net/http"
@@ -45,22 +43,14 @@ const (
 	onceMax = 8192
 )
 
-// onceKey is a new form key: 128 random bits.
-func onceKey() string {
-	b := make([]byte, 16)
-	if _, err := rand.Read(b); err != nil {
-		// crypto/rand does not fail on Linux; without a key the form
-		// simply runs as a post without one.
-		return ""
-	}
-	return hex.EncodeToString(b)
-}
-
 // onceField is the hidden field every form that changes something
 // carries, with a key new at each rendering.
 func onceField() templ.Component {
 	return templ.ComponentFunc(func(_ context.Context, w io.Writer) error {
-		_, err := io.WriteString(w, `<input type="hidden" name="`+onceName+`" value="`+onceKey()+`"/>`)
+		// crypto/rand does not fail on Linux; without a key the form
+		// runs as a post without one.
+		key, _ := randomKey()
+		_, err := io.WriteString(w, `<input type="hidden" name="`+onceName+`" value="`+key+`"/>`)
 		return err
 	})
 }

@@ -5,8 +5,6 @@ import (
 	"strconv"
 	"sync"
 	"time"
-
-	"golang.org/x/time/rate"
 )
 
 // One expert's link cannot crowd out the others' previews. Previews go
@@ -27,20 +25,15 @@ const (
 // previewThrottle holds each expert's allowance of previews.
 type previewThrottle struct {
 	mu      sync.Mutex
-	burst   int
-	experts map[int64]*rate.Limiter
+	experts limiters[int64]
 }
-
-// maxThrottledExperts bounds the allowances kept; beyond it, those back
-// at their full allowance are dropped (they lose nothing).
-const maxThrottledExperts = 4096
 
 // newPreviewThrottle allows burst previews at once (PreviewBurst when 0).
 func newPreviewThrottle(burst int) *previewThrottle {
 	if burst <= 0 {
 		burst = PreviewBurst
 	}
-	return &previewThrottle{burst: burst, experts: map[int64]*rate.Limiter{}}
+	return &previewThrottle{experts: newLimiters[int64](previewEvery, burst)}
 }
 
 // admit takes one preview from the expert's allowance at now, or returns
@@ -48,19 +41,7 @@ func newPreviewThrottle(burst int) *previewThrottle {
 func (t *previewThrottle) admit(expert int64, now time.Time) time.Duration {
 	t.mu.Lock()
 	defer t.mu.Unlock()
-	l, ok := t.experts[expert]
-	if !ok {
-		if len(t.experts) >= maxThrottledExperts {
-			for id, old := range t.experts {
-				if old.TokensAt(now) >= float64(t.burst) {
-					delete(t.experts, id)
-				}
-			}
-		}
-		l = rate.NewLimiter(rate.Every(previewEvery), t.burst)
-		t.experts[expert] = l
-	}
-	r := l.ReserveN(now, 1)
+	r := t.experts.get(expert, now).ReserveN(now, 1)
 	if d := r.DelayFrom(now); d > 0 {
 		r.CancelAt(now)
 		return d

@@ -30,7 +30,7 @@ const (
 // signInThrottle holds the limits of sign-in attempts.
 type signInThrottle struct {
 	mu      sync.Mutex
-	clients map[string]*rate.Limiter // by client address
+	clients limiters[string] // by client address
 	overall *rate.Limiter
 	// comparing admits one bcrypt comparison at a time; the limits keep
 	// the queue for it at most SignInBurst long.
@@ -38,13 +38,9 @@ type signInThrottle struct {
 	compared  atomic.Int64 // comparisons made, for tests
 }
 
-// maxThrottledClients bounds the limiters kept; beyond it, those of
-// addresses back at their full allowance are dropped (they lose nothing).
-const maxThrottledClients = 4096
-
 func newSignInThrottle() *signInThrottle {
 	return &signInThrottle{
-		clients:   map[string]*rate.Limiter{},
+		clients:   newLimiters[string](signInClientEvery, SignInBurst),
 		overall:   rate.NewLimiter(rate.Every(SignInOverallEvery), SignInBurst),
 		comparing: make(chan struct{}, 1),
 	}
@@ -56,14 +52,7 @@ func newSignInThrottle() *signInThrottle {
 func (t *signInThrottle) admit(client string, now time.Time) time.Duration {
 	t.mu.Lock()
 	defer t.mu.Unlock()
-	cl, ok := t.clients[client]
-	if !ok {
-		if len(t.clients) >= maxThrottledClients {
-			t.prune(now)
-		}
-		cl = rate.NewLimiter(rate.Every(signInClientEvery), SignInBurst)
-		t.clients[client] = cl
-	}
+	cl := t.clients.get(client, now)
 	rc, ro := cl.ReserveN(now, 1), t.overall.ReserveN(now, 1)
 	wait := max(rc.DelayFrom(now), ro.DelayFrom(now))
 	if wait > 0 {
@@ -71,19 +60,6 @@ func (t *signInThrottle) admit(client string, now time.Time) time.Duration {
 		ro.CancelAt(now)
 	}
 	return wait
-}
-
-// prune drops the limiters of clients back at their full allowance, and
-// all of them if that is not enough (the overall limit still holds).
-func (t *signInThrottle) prune(now time.Time) {
-	for k, l := range t.clients {
-		if l.TokensAt(now) >= SignInBurst {
-			delete(t.clients, k)
-		}
-	}
-	if len(t.clients) >= maxThrottledClients {
-		clear(t.clients)
-	}
 }
 
 // compare runs f as the only comparison in progress, waiting for its

@@ -114,11 +114,7 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			return fail(stderr, "import-answers", err)
 		}
 	}
-	judgements := "judgements"
-	if len(rows) == 1 {
-		judgements = "judgement"
-	}
-	fmt.Fprintf(stdout, "%s %d %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, len(rows), judgements, ws.Round, wid, ch)
+	fmt.Fprintf(stdout, "%s %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, countOf(len(rows), "judgement", "judgements"), ws.Round, wid, ch)
 	return exitOK
 }
 

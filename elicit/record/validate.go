@@ -109,7 +109,7 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 	}
 	seenR := map[int64]bool{}
-	revQuestion := map[int64]int64{} // revision → its question
+	pooled := map[int64]pooledFit{} // revision → its question, expert and the fit a panel pooled
 	for i, rv := range r.Revisions {
 		p := fmt.Sprintf("revisions[%d]", i)
 		if err := checkID(p+".id", rv.ID, seenR); err != nil {
@@ -147,13 +147,17 @@ func (r Record) validate(fits []elicit.Fit) error {
 			}
 		}
 		fits[i] = f
-		revQuestion[rv.ID] = rv.QuestionID
+		d := f.Dist
+		if rv.Fit != nil {
+			d = rv.Fit.Dist // the kept fit, which the panel pooled (Revision.FitOf)
+		}
+		pooled[rv.ID] = pooledFit{question: rv.QuestionID, expert: rv.ExpertID, dist: d}
 	}
 	// A prior from the pool names revisions of its own question.
 	for i, q := range r.Questions {
 		for j, ap := range q.PriorHistory {
 			for k, id := range ap.Pooled {
-				if revQuestion[id] != q.ID {
+				if pooled[id].question != q.ID {
 					return inputErr(fmt.Sprintf("questions[%d].prior_history[%d].pooled_revisions[%d]", i, j, k), elicit.RuleUnknown,
 						"no revision %d on question %d in the record", id, q.ID)
 				}
@@ -192,14 +196,6 @@ func (r Record) validate(fits []elicit.Fit) error {
 			return err
 		}
 	}
-	pooledFits := map[int64]pooledFit{} // revision → its expert and the fit its panel pooled
-	for i, rv := range r.Revisions {
-		d := fits[i].Dist
-		if rv.Fit != nil {
-			d = rv.Fit.Dist // the kept fit, which the panel pooled (Revision.FitOf)
-		}
-		pooledFits[rv.ID] = pooledFit{expert: rv.ExpertID, dist: d}
-	}
 	sets := map[int64]workshop.Weights{}
 	for _, wt := range r.WeightHistory {
 		sets[wt.ID] = wt
@@ -210,7 +206,7 @@ func (r Record) validate(fits []elicit.Fit) error {
 			if err := checkConsensusFit(p, ap, q.Question); err != nil {
 				return err
 			}
-			if err := checkPoolPrior(p, ap, pooledFits, sets); err != nil {
+			if err := checkPoolPrior(p, ap, pooled, sets); err != nil {
 				return err
 			}
 		}
@@ -240,10 +236,12 @@ func checkConsensusFit(p string, ap workshop.AgreedPrior, q workshop.Question) e
 	return nil
 }
 
-// pooledFit is a revision's expert and fitted Beta, as a panel pooled it.
+// pooledFit is a revision's question, expert and fitted Beta, as a panel
+// pooled it.
 type pooledFit struct {
-	expert int64
-	dist   elicit.ScaledBeta
+	question int64
+	expert   int64
+	dist     elicit.ScaledBeta
 }
 
 // RulePoolMismatch is the rule that a prior agreed from the pool is the
