@@ -111,6 +111,24 @@ func sheetColumns(q workshop.Question) []string {
 	for i, p := range q.Probs {
 		cols[i] = quantileColumn(p)
 	}
+	// Two probabilities without a short decimal form can round to one
+	// two-digit name (1/3 and 0.33434…, both q33); those take as many
+	// decimals as tell them apart, so a sheet never names one column twice.
+	for d := 3; d <= 17; d++ {
+		seen := map[string]int{}
+		for _, c := range cols {
+			seen[c]++
+		}
+		if len(seen) == len(cols) {
+			break
+		}
+		for i, p := range q.Probs {
+			if seen[cols[i]] > 1 {
+				digits := strings.TrimRight(strings.TrimPrefix(strconv.FormatFloat(p, 'f', d, 64), "0."), "0")
+				cols[i] = "q" + digits
+			}
+		}
+	}
 	return cols
 }
 

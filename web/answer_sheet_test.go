@@ -9,6 +9,7 @@ import (
 	"net/http"
 	"net/url"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -16,6 +17,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // sheetRig is a workshop of every answer format for the sheet tests (an
@@ -207,6 +209,22 @@ func TestQuantileColumnNames(t *testing.T) {
 		if got := quantileColumn(c.p); got != c.want {
 			t.Errorf("QuantileColumn(%v) = %q, want %q", c.p, got, c.want)
 		}
+	}
+}
+
+// A question's columns are never named twice: two probabilities without
+// a short decimal form that round to one two-digit name take more
+// decimals.
+func TestQuantileColumnsOfOneQuestionDiffer(t *testing.T) {
+	q := workshop.Question{Format: workshop.FormatQuantiles, Probs: []float64{0.1, 1.0 / 3, 0.3343434343434343, 0.9}}
+	got := sheetColumns(q)
+	want := []string{"q10", "q333", "q334", "q90"}
+	if !slices.Equal(got, want) {
+		t.Errorf("columns %q, want %q", got, want)
+	}
+	q.Probs = []float64{1.0 / 3, 0.5, 2.0 / 3}
+	if got := sheetColumns(q); !slices.Equal(got, []string{"q33", "q50", "q67"}) {
+		t.Errorf("tertiles' columns %q", got)
 	}
 }
 
@@ -578,5 +596,21 @@ func TestSheetUploadFieldSentTwice(t *testing.T) {
 	}
 	if n := len(g.revisions(t)); n != 0 {
 		t.Fatalf("%d revisions saved", n)
+	}
+}
+
+// Probabilities a question may ask (workshop.MinProbGap apart) never share
+// a label on the expert's form: the label of p differs from that of the
+// nearest probability the rule allows above it, typed to a millionth,
+// across (0, 1); labels rise with p, so any wider gap differs too.
+func TestProbabilitiesAQuestionMayAskHaveTheirOwnLabels(t *testing.T) {
+	for i := 1; i+1000 < 1_000_000; i++ {
+		p, q := float64(i)/1e6, float64(i+1000)/1e6
+		if err := (workshop.Question{Wording: "w", Quantity: "q", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{p, q}}).Validate(); err != nil {
+			t.Fatalf("%v and %v refused: %v", p, q, err)
+		}
+		if a, b := chart.FormatPercent(p), chart.FormatPercent(q); a == b {
+			t.Fatalf("%v and %v are both labelled %q", p, q, a)
+		}
 	}
 }

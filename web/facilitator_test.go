@@ -155,6 +155,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		{"question without wording", wp + "/questions", question(map[string]string{"wording": ""}), "wording", "share"},
 		{"custom probabilities decreasing", wp + "/questions", question(map[string]string{"preset": "custom", "custom_probs": "0.5 0.2"}), "custom_probs", "0.5 0.2"},
 		{"custom probability of 1", wp + "/questions", question(map[string]string{"preset": "custom", "custom_probs": "0.5 1"}), "custom_probs", "0.5 1"},
+		{"custom probabilities a hair apart", wp + "/questions", question(map[string]string{"preset": "custom", "custom_probs": "0.05 0.5 0.5000001"}), "custom_probs", "0.05 0.5 0.5000001"},
 		{"unknown format", wp + "/questions", question(map[string]string{"format": "guess"}), "format", "What share will fail?"},
 		{"chips not a number", wp + "/questions", question(map[string]string{"format": "chips", "bin_edges": "0 0.5 1", "chips": "ten"}), "chips", "ten"},
 		{"bin edges short of the bounds", wp + "/questions", question(map[string]string{"format": "chips", "bin_edges": "0.1 0.5 1", "chips": "10"}), "bin_edges", "0.1 0.5 1"},

@@ -36,7 +36,8 @@ const MaxChips = 1000
 // characters), quantity and units (input.MaxShortText) by the text rule of
 // input.CheckText, wording and quantity present; bounds finite and
 // ordered; a known format; for FormatQuantiles, elicit.MinPairs to
-// elicit.MaxPairs probabilities passing elicit.CheckProbs; for
+// elicit.MaxPairs probabilities passing elicit.CheckProbs, at least
+// MinProbGap apart; for
 // FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
 // increase from Lower to Upper and between elicit.MinChipBins and MaxChips
 // chips; a true value, if set, finite and strictly inside (Lower, Upper).
@@ -53,6 +54,9 @@ func (q Question) Validate() error {
 			return inputErr("probs", elicit.RuleCount, "need %d to %d probabilities, got %d", elicit.MinPairs, elicit.MaxPairs, n)
 		}
 		if err := elicit.CheckProbs("probs", q.Probs); err != nil {
+			return err
+		}
+		if err := checkProbGap(q.Probs); err != nil {
 			return err
 		}
 	case FormatInterval:
@@ -75,6 +79,30 @@ func (q Question) Validate() error {
 	}
 	if t := q.TrueValue; t != nil {
 		return q.CheckTrueValue(*t)
+	}
+	return nil
+}
+
+// MinProbGap is the least difference between two probabilities a
+// question asks for: a tenth of a percentage point. Closer ones are one
+// question asked twice (an expert cannot tell a 50% value from a 50.01%
+// one), most often a slip of the keyboard; and at this gap every label
+// (chart.FormatPercent's three figures) and every answer sheet's column
+// tells them apart, where 0.5 and 0.5001 both read "50%" and both named
+// the sheet's column q50. Common practice, no source.
+const MinProbGap = 0.001
+
+// RuleProbGap is MinProbGap's rule.
+const RuleProbGap elicit.Rule = "must be at least 0.001 (a tenth of a percentage point) above the probability before it"
+
+// checkProbGap checks that increasing probabilities are MinProbGap apart;
+// a gap typed as exactly 0.001 (0.051 after 0.05, 0.000999… in binary) is
+// taken.
+func checkProbGap(ps []float64) error {
+	for i := 1; i < len(ps); i++ {
+		if ps[i]-ps[i-1] < MinProbGap*(1-1e-9) {
+			return inputErr(fmt.Sprintf("probs[%d]", i), RuleProbGap, "%v after %v", ps[i], ps[i-1])
+		}
 	}
 	return nil
 }

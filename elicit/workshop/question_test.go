@@ -79,8 +79,20 @@ func TestQuestionValidate(t *testing.T) {
 		{"ten probs", func(q *Question) { q.Probs = make([]float64, 10) }, "probs", elicit.RuleCount},
 		{"prob order", func(q *Question) { q.Probs = []float64{0.5, 0.25} }, "probs[1]", elicit.RuleProbIncreasing},
 		{"prob open", func(q *Question) { q.Probs = []float64{0, 0.5} }, "probs[0]", elicit.RuleProbOpen},
+		// Two labels "50%" for one question, and two sheet columns q50.
+		{"probs too close", func(q *Question) { q.Probs = []float64{0.05, 0.5, 0.5005, 0.95} }, "probs[2]", RuleProbGap},
+		{"probs a hair apart", func(q *Question) { q.Probs = []float64{0.05, 0.5, 0.5000001} }, "probs[2]", RuleProbGap},
 		{"true value outside", func(q *Question) { q.TrueValue = tv(1) }, "true_value", elicit.RuleValueInBounds},
 		{"true value NaN", func(q *Question) { q.TrueValue = tv(math.NaN()) }, "true_value", elicit.RuleFinite},
+	}
+	// A gap typed as exactly MinProbGap is taken, though 0.051 − 0.05 is
+	// 0.000999… in binary.
+	for _, ps := range [][]float64{{0.05, 0.051, 0.5}, {0.001, 0.002, 0.003}, {0.5, 0.998, 0.999}} {
+		q := quantileQuestion()
+		q.Probs = ps
+		if err := q.Validate(); err != nil {
+			t.Errorf("probabilities %v a tenth of a point apart refused: %v", ps, err)
+		}
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {

@@ -161,10 +161,13 @@ func formatWithin(x, lower, upper float64, percent bool, min int) string {
 }
 
 // FormatPercent writes a probability as a percentage without noise:
-// 0.05 → "5%", 0.025 → "2.5%", 0.3333 → "33.3%". A probability short of 1
-// keeps as many more figures as it takes to stay short of 100%
-// (elicit.ShapeDigits): a fitted chance of 0.99977 below an expert's 95%
-// value is "99.98%", not "100%", which reads as certainty.
+// 0.05 → "5%", 0.025 → "2.5%", 0.33333 → "33.3%". A probability that four
+// figures write exactly keeps them, so a probability a question asks is
+// read as it was typed: 0.1025 → "10.25%", not "10.2%", which 0.1015 is
+// written as too. A probability short of 1 keeps as many more figures as
+// it takes to stay short of 100% (elicit.ShapeDigits): a fitted chance of
+// 0.99977 below an expert's 95% value is "99.98%", not "100%", which reads
+// as certainty.
 func FormatPercent(p float64) string {
 	if math.IsNaN(p) || math.IsInf(p, 0) {
 		return "not available"
@@ -173,7 +176,19 @@ func FormatPercent(p float64) string {
 	if p > 0.99 && p < 1 {
 		sig = elicit.ShapeDigits(p, 3)
 	}
+	if sig < 4 {
+		if four := formatSig(p*100, 4); exactPercent(four, p) {
+			return four + "%"
+		}
+	}
 	return formatSig(p*100, sig) + "%"
+}
+
+// exactPercent reports whether the percentage s reads back as p, within
+// the rounding of the reading.
+func exactPercent(s string, p float64) bool {
+	v, err := strconv.ParseFloat(s, 64)
+	return err == nil && math.Abs(v/100-p) <= 1e-12*math.Max(1, math.Abs(p))
 }
 
 // coord writes an SVG coordinate with two decimals. Callers guard against
