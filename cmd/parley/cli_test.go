@@ -619,3 +619,26 @@ func TestRepeatedFlagReadsNegativeNumbersAsValues(t *testing.T) {
 		}
 	}
 }
+
+// A value near a bound is written on its own side of the bound: a stated
+// 0.9999999999 and its fitted 95% value are not "1", the bound itself, in
+// the text of fit, and an upper interval end short of 1 is not "1" in
+// update's (Beta(30001, 1)'s quantile is p^(1/30001) in closed form:
+// (1 − 5e-7)^(1/30001) = 1 − 1.67e-11; the lower end 0.999517 is R 4.2's
+// qbeta(5e-7, 30001, 1) to six figures).
+func TestTextOutputKeepsValuesOffTheBounds(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "fit", "--probs", "0.05,0.5,0.95", "--values", "0.9,0.99999,0.9999999999")
+	if code != 0 {
+		t.Fatalf("fit: exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(out, "95% 0.9999999999\n") || !strings.Contains(out, "0.95         0.9999999999 0.9999999999 ") {
+		t.Errorf("fit text writes the value near 1 as 1:\n%s", out)
+	}
+	code, out, errOut = runCLI(t, "", "update", "--alpha", "1", "--beta", "1", "--successes", "30000", "--trials", "30000", "--level", "0.999999")
+	if code != 0 {
+		t.Fatalf("update: exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(out, "equal-tailed interval [0.999517, 0.99999999998]") {
+		t.Errorf("update text writes an interval end short of 1 as 1:\n%s", out)
+	}
+}

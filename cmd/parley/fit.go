@@ -111,10 +111,11 @@ func fitCommand(probsArg, valuesArg, lowerArg, upperArg, format string) (fitOutp
 func writeFitText(w io.Writer, o fitOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
-	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Percentiles.P05, o.Percentiles.P50, o.Percentiles.P95)
+	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
+	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s\n", in(o.Mean), o.SD, in(o.Percentiles.P05), in(o.Percentiles.P50), in(o.Percentiles.P95))
 	fmt.Fprintf(&b, "%-12s %-12s %-12s %s\n", "probability", "stated", "fitted", "F(stated)-p")
 	for i, p := range o.Probs {
-		fmt.Fprintf(&b, "%-12g %-12.6g %-12.6g %+.2e\n", p, o.Values[i], o.Fitted[i], o.ProbErrors[i])
+		fmt.Fprintf(&b, "%-12g %-12s %-12s %+.2e\n", p, in(o.Values[i]), in(o.Fitted[i]), o.ProbErrors[i])
 	}
 	fmt.Fprintf(&b, "sum of squares %.3e, largest probability error %.3e\n", o.SSE, o.MaxProbError)
 	for _, m := range o.Warnings {

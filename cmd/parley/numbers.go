@@ -89,6 +89,13 @@ func writeJSON(w io.Writer, v any) error {
 // that it is just above 1.
 func shape(x float64) string { return strconv.FormatFloat(x, 'g', elicit.ShapeDigits(x, 6), 64) }
 
+// within writes a value on the scale [lower, upper] to six significant
+// figures, or as many more as it takes to stay on its own side of each
+// bound: a stated 0.9999999999 is not "1", which is the bound itself.
+func within(x, lower, upper float64) string {
+	return strconv.FormatFloat(x, 'g', max(elicit.SideDigits(x, lower, 6), elicit.SideDigits(x, upper, 6)), 64)
+}
+
 // finite reports whether every value is a finite number, the last check
 // before printing so that no NaN reaches the output.
 func finite(vs ...float64) bool {

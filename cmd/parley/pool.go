@@ -305,11 +305,12 @@ func poolExperts(experts []poolExpert, lower, upper float64) ([]elicit.ScaledBet
 
 func writePoolText(w io.Writer, o poolOutput) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %.6g, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, o.Mean, o.SD)
+	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
+	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %s, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, in(o.Mean), o.SD)
 	for i, p := range o.Probs {
-		fmt.Fprintf(&b, "  quantile %-8g %.6g", p, o.Quantiles[i])
+		fmt.Fprintf(&b, "  quantile %-8g %s", p, in(o.Quantiles[i]))
 		if q := o.QuantileDetail[i]; !q.Unique {
-			fmt.Fprintf(&b, " (not unique: every value from %.6g to %.6g has this probability; the midpoint is shown)", q.Low, q.High)
+			fmt.Fprintf(&b, " (not unique: every value from %s to %s has this probability; the midpoint is shown)", in(q.Low), in(q.High))
 		}
 		fmt.Fprintln(&b)
 	}

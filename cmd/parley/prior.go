@@ -250,7 +250,8 @@ func writePriorText(w io.Writer, o priorOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
 	fmt.Fprintf(&b, "made from: %s\n", o.Description)
-	fmt.Fprintf(&b, "mean %.6g, sd %.6g; 5%% %.6g, 50%% %.6g, 95%% %.6g\n", o.Mean, o.SD, o.Q05, o.Q50, o.Q95)
+	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
+	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s\n", in(o.Mean), o.SD, in(o.Q05), in(o.Q50), in(o.Q95))
 	if o.CoverageAchieved != nil {
 		fmt.Fprintf(&b, "the interval [%g, %g] holds %s%% of this prior (asked %s%%): %.4g%% below it, %.4g%% above it\n",
 			o.Input.Low, o.Input.High, elicit.PercentText(*o.CoverageAchieved, 4), input.Typed(o.Input.Coverage, true), 100**o.BelowLow, 100**o.AboveHigh)

@@ -126,9 +126,10 @@ func writeUpdateText(w io.Writer, o updateOutput) error {
 	var b strings.Builder
 	pct := input.Typed(o.Level, true)
 	fmt.Fprintf(&b, "prior Beta(%s, %s), data %s in %s\n", shape(o.Prior.Alpha), shape(o.Prior.Beta), countOf(o.Successes, "success", "successes"), countOf(o.Trials, "trial", "trials"))
-	fmt.Fprintf(&b, "posterior Beta(%s, %s): mean %.6g, sd %.6g\n", shape(o.Alpha), shape(o.Beta), o.Mean, o.SD)
-	fmt.Fprintf(&b, "%s%% equal-tailed interval [%.6g, %.6g]\n", pct, o.Interval[0], o.Interval[1])
-	fmt.Fprintf(&b, "%s%% highest-density interval [%.6g, %.6g]\n", pct, o.HDI[0], o.HDI[1])
+	in := func(x float64) string { return within(x, 0, 1) }
+	fmt.Fprintf(&b, "posterior Beta(%s, %s): mean %s, sd %.6g\n", shape(o.Alpha), shape(o.Beta), in(o.Mean), o.SD)
+	fmt.Fprintf(&b, "%s%% equal-tailed interval [%s, %s]\n", pct, in(o.Interval[0]), in(o.Interval[1]))
+	fmt.Fprintf(&b, "%s%% highest-density interval [%s, %s]\n", pct, in(o.HDI[0]), in(o.HDI[1]))
 	if c := o.Conflict; c != nil {
 		fmt.Fprintf(&b, "prior predictive check: %s\n", c)
 	}
