@@ -164,6 +164,7 @@ func TestFacilitatorFormsRejectBadInput(t *testing.T) {
 		{"true value without the calibration box", wp + "/questions", question(map[string]string{"true_value": "0.5"}), "true_value", "0.5"},
 		{"expert without name", wp + "/experts", url.Values{"name": {""}, "affiliation": {"kept affiliation"}}, "name", "kept affiliation"},
 		{"expert name with control character", wp + "/experts", url.Values{"name": {"a\x07b"}}, "name", ""},
+		{"expert name with a direction override", wp + "/experts", url.Values{"name": {"Ann\u202eegassem"}}, "name", ""},
 		{"round action unknown", wp + "/round", url.Values{"action": {"skip"}}, "action", ""},
 		{"open round while open", wp + "/round", url.Values{"action": {"open"}, "reason": {"kept reason"}}, "action", "kept reason"},
 		{"weights without reason", qp + "/weights", url.Values{"scheme": {"custom"}, weightField(es[0].ID): {"2"}, weightField(es[1].ID): {"1"}, weightField(es[2].ID): {"1"}, weightField(es[3].ID): {"1"}}, "reason", ""},

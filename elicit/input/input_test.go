@@ -201,6 +201,23 @@ func TestCheckTextAtTheLimit(t *testing.T) {
 	if err := CheckText("reason", "one\r\ntwo\tthree", 20, false); err != nil {
 		t.Errorf("newline, CR and tab refused: %v", err)
 	}
+	// The invisible text-direction embeddings, overrides and isolates
+	// (Unicode's explicit bidirectional formatting characters, UAX #9
+	// section 2) reorder what follows them on screen: "approve\u202Eton"
+	// shows as "approvenot". Refused in every text (a JSON string too:
+	// json_test.go).
+	for _, c := range []string{"\u202a", "\u202b", "\u202c", "\u202d", "\u202e", "\u2066", "\u2067", "\u2068", "\u2069"} {
+		var ie *elicit.InputError
+		if err := CheckText("reason", "approve"+c+"ton", 20, false); !errors.As(err, &ie) || ie.Rule != RuleTextValid || !strings.Contains(ie.Detail, "text-direction") {
+			t.Errorf("%U: %v, want %q", []rune(c)[0], err, RuleTextValid)
+		}
+	}
+	// Right-to-left names need none of them, and the marks are kept.
+	for _, name := range []string{"نور الهدى", "שרה לוי", "Dana \u200fשרה\u200e (QA)"} {
+		if err := CheckText("name", name, 40, true); err != nil {
+			t.Errorf("%q refused: %v", name, err)
+		}
+	}
 	// CheckText does not trim: what is stored is checked as it is.
 	var ie *elicit.InputError
 	if err := CheckText("name", "  ", 10, true); !errors.As(err, &ie) || ie.Rule != elicit.RuleRequired {

@@ -84,6 +84,7 @@ func TestScanJSONRefuses(t *testing.T) {
 		{"{\"parts\":[{\"note\":\"a\xffb\"}]}", "parts[0].note", RuleTextValid},
 		{`{"parts":[{"note":"a\udc00b"}]}`, "parts[0].note", RuleTextValid},
 		{`{"anyway":{"x":"\u001b[2J"}}`, "anyway.x", RuleTextValid},
+		{`{"parts":[{"note":"Ann\u202eegassem"}]}`, "parts[0].note", RuleTextValid}, // a right-to-left override
 		{`{"parts":[`, "doc", "syntax"},
 		{`{"flag":true} {}`, "doc", "syntax"},
 		{``, "doc", "syntax"},

@@ -11,7 +11,7 @@ import (
 
 // Rules of text.
 const (
-	RuleTextValid elicit.Rule = "must be plain text (no control characters)"
+	RuleTextValid elicit.Rule = "must be plain text (no control characters or text-direction overrides)"
 	RuleTooLong   elicit.Rule = "is too long"
 )
 
@@ -57,7 +57,9 @@ func CheckText(field, s string, max int, required bool) error {
 
 // CheckChars checks that s is valid UTF-8 without control characters
 // (Unicode category Cc: NUL, BEL, ESC, DEL, the C1 set, ...) other than
-// newline, carriage return and tab.
+// newline, carriage return and tab, and without the explicit
+// text-direction embeddings, overrides and isolates (U+202A–U+202E,
+// U+2066–U+2069; see directionOverride).
 func CheckChars(field, s string) error {
 	if !utf8.ValidString(s) {
 		return &elicit.InputError{Field: field, Rule: RuleTextValid, Detail: "not UTF-8"}
@@ -66,8 +68,25 @@ func CheckChars(field, s string) error {
 		if unicode.IsControl(r) && r != '\n' && r != '\r' && r != '\t' {
 			return &elicit.InputError{Field: field, Rule: RuleTextValid, Detail: fmt.Sprintf("character %U", r)}
 		}
+		if directionOverride(r) {
+			return &elicit.InputError{Field: field, Rule: RuleTextValid, Detail: fmt.Sprintf("character %U, an invisible text-direction override", r)}
+		}
 	}
 	return nil
+}
+
+// directionOverride reports the invisible characters that reorder the
+// text after them on screen (Unicode's explicit bidirectional formatting
+// characters: LRE, RLE, PDF, LRO, RLO, LRI, RLI, FSI, PDI). With them a
+// name, a reason or a rationale in the record can be shown in another
+// order than it was written, so the decision log would not read as what
+// was typed ("Trojan Source", Boucher & Anderson 2021, CVE-2021-42574).
+// Right-to-left names need none of them: the browser orders Arabic and
+// Hebrew letters itself, and the left-to-right and right-to-left marks
+// (U+200E, U+200F), each an invisible letter of one direction that
+// reverses no text, are kept.
+func directionOverride(r rune) bool {
+	return (r >= 0x202A && r <= 0x202E) || (r >= 0x2066 && r <= 0x2069)
 }
 
 // Clip shortens s to n characters, with an ellipsis when it cut, for
