@@ -118,6 +118,20 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td, .table-fits td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 		t.Errorf("%s at %d px: a table's cells run past the screen: %q", where, width, cut)
 	}
+	// A picture's key keeps each icon beside its words: the words after an
+	// icon start to its right, level with it, not on the next line.
+	if apart := eval[[]string](p, "key icons", `Array.from(document.querySelectorAll(".chart-key-icon")).filter(i => i.getClientRects().length).filter(i => {
+		const w = document.createTreeWalker(i.closest(".chart-key"), NodeFilter.SHOW_TEXT);
+		w.currentNode = i;
+		let t = w.nextNode();
+		while (t && !t.textContent.trim()) t = w.nextNode();
+		if (!t) return false;
+		const r = document.createRange(); r.selectNodeContents(t);
+		const first = r.getClientRects()[0], all = r.getBoundingClientRect(), icon = i.getBoundingClientRect(), mid = (icon.top + icon.bottom) / 2;
+		return !first || mid < all.top - 2 || mid > all.bottom + 2 || first.left < icon.right - 1;
+	}).map(i => i.closest(".chart-key").textContent.trim().slice(0, 60))`); len(apart) > 0 {
+		t.Errorf("%s at %d px: a key's icon is apart from its words: %q", where, width, apart)
+	}
 	// A link drawn as a button is one box: broken over two lines, its
 	// border ran round each line's piece of it.
 	if broken := eval[[]string](p, "buttons' boxes", `Array.from(document.querySelectorAll("a.button")).filter(a => a.getClientRects().length > 1).map(a => a.textContent.trim())`); len(broken) > 0 {

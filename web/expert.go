@@ -167,8 +167,11 @@ type historyRow struct {
 	Round  int
 	At     string
 	Reason string
-	Alpha  string
-	Beta   string
+	// Fitted says what the fit of the saved values implies, in the
+	// expert's terms (median and 90% range, as the values were typed);
+	// Params names the Beta, for the expert who reads one.
+	Fitted string
+	Params string
 	Values string
 	// EnteredNote is set for a revision the facilitator entered.
 	EnteredNote string
@@ -737,12 +740,15 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 
 func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) historyRow {
 	h := historyRow{Round: rv.Round, At: rv.At.UTC().Format(timeLayout), Reason: rv.Reason,
-		Values: answerInWords(q, rv.Answer), Alpha: "—", Beta: "—"}
+		Values: answerInWords(q, rv.Answer), Fitted: "—"}
 	if rv.EnteredBy == workshop.ByFacilitator {
 		h.EnteredNote = "entered by the facilitator " + channelForExpert(rv.Channel)
 	}
 	if fit, err := s.fits.fit(q, rv); err == nil {
-		h.Alpha, h.Beta = chart.FormatShape(fit.Dist.Alpha), chart.FormatShape(fit.Dist.Beta.Beta)
+		pct := rv.Answer.Percent && q.Format != workshop.FormatChips
+		in := func(x float64) string { return typedBack(q, x, pct) }
+		h.Fitted = "median " + in(fit.Percentiles[1]) + "; 90% between " + in(fit.Percentiles[0]) + " and " + in(fit.Percentiles[2])
+		h.Params = "Beta(" + chart.FormatShape(fit.Dist.Alpha) + ", " + chart.FormatShape(fit.Dist.Beta.Beta) + ")"
 	}
 	return h
 }

@@ -300,10 +300,17 @@ func TestExpertSaveCreatesARevision(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"first thoughts after the briefing", chart.FormatValue(fit.Dist.Alpha)} {
+	// The history says what the fit implies in the expert's terms, the
+	// Beta's parameters beneath for whoever reads them.
+	implied := "median " + chart.FormatWithin(fit.Percentiles[1], 0, 1, false) + "; 90% between " +
+		chart.FormatWithin(fit.Percentiles[0], 0, 1, false) + " and " + chart.FormatWithin(fit.Percentiles[2], 0, 1, false)
+	for _, want := range []string{"first thoughts after the briefing", implied, "Beta(" + chart.FormatShape(fit.Dist.Alpha) + ", "} {
 		if !strings.Contains(page, want) {
 			t.Errorf("history lacks %q", want)
 		}
+	}
+	if strings.Contains(page, "fitted α") {
+		t.Error("the history still names the fitted α, which an expert need not know")
 	}
 
 	// A second save is a second revision; the first is kept.
