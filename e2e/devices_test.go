@@ -118,6 +118,15 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td, .table-fits td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 		t.Errorf("%s at %d px: a table's cells run past the screen: %q", where, width, cut)
 	}
+	oneLineTimes(t, p, fmt.Sprintf("%s at %d px", where, width), false)
+	// On a phone a history (the expert's own, and the one on the
+	// facilitator's entry page) is a block of labelled lines per save: the
+	// cells of a row stand one under another, not squeezed side by side.
+	if width < 600 {
+		if side := eval[int](p, "histories' rows", `Array.from(document.querySelectorAll("section.history tbody tr")).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+			t.Errorf("%s at %d px: %d history rows lay their cells side by side", where, width, side)
+		}
+	}
 	// A picture's key keeps each icon beside its words: the words after an
 	// icon start to its right, level with it, not on the next line.
 	if apart := eval[[]string](p, "key icons", `Array.from(document.querySelectorAll(".chart-key-icon")).filter(i => i.getClientRects().length).filter(i => {
