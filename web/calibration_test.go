@@ -359,8 +359,7 @@ func TestTrueValueRefusedBesideTheField(t *testing.T) {
 		{"not a number", "true_value", url.Values{"true_value": {"about 0.3"}}},
 		{"decimal comma", "true_value", url.Values{"true_value": {"0,3172"}}},
 		{"NaN", "true_value", url.Values{"true_value": {"NaN"}}},
-		{"on the upper bound", "true_value", url.Values{"true_value": {"1"}}},
-		{"on the lower bound", "true_value", url.Values{"true_value": {"0"}}},
+		{"above the upper bound", "true_value", url.Values{"true_value": {"1.0000001"}}},
 		{"below the bounds", "true_value", url.Values{"true_value": {"-0.2"}}},
 		{"reveal without reason", "reason", url.Values{"true_value": {"0.3172"}, "reveal": {"on"}, "reason": {" "}}},
 	}
@@ -413,6 +412,26 @@ func TestTrueValueRefusedBesideTheField(t *testing.T) {
 	evs, _ = h.db.Events(ctx, p.ws.ID)
 	if last := evs[len(evs)-1]; last.Kind != workshop.EventTruthRevealed || last.Reason != "typo (invented)" || !strings.Contains(last.Detail, "0.3175") {
 		t.Fatalf("change of a revealed value recorded as %+v", last)
+	}
+	// An observed share of exactly 0 or 1 is a true value too (no unit of a
+	// tested batch failed), as parley calibrate takes a realisation on a
+	// bound; every expert is then scored with it in their lowest or highest
+	// bin, and the page shows the scores.
+	for i, v := range []string{"0", "1"} {
+		sq := p.seeds[i+1]
+		if res, body := h.post(seedPath(p.ws.ID, sq.ID), url.Values{"true_value": {v}}); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("true value %s on a bound: %d %s", v, res.StatusCode, body)
+		}
+		if got, _ := h.db.Question(ctx, sq.ID); got.TrueValue == nil || fv(*got.TrueValue) != v {
+			t.Fatalf("true value %s stored as %+v", v, got.TrueValue)
+		}
+	}
+	res, page := h.get("/w/" + itoa(p.ws.ID) + "/calibration")
+	if code := res.StatusCode; code != http.StatusOK || strings.Contains(page, "NaN") || strings.Contains(page, "not available") || !strings.Contains(page, "Calibration") {
+		t.Errorf("calibration page with true values on the bounds: %d", res.StatusCode)
+	}
+	if !strings.Contains(page, "classical model on 3 calibration questions") {
+		t.Error("the calibration page does not score the experts on the three questions")
 	}
 }
 

@@ -303,7 +303,7 @@ func TestValidateRecord(t *testing.T) {
 		{"question probs", func(r *Record) { r.Questions[0].Probs = []float64{0.5, 0.05, 0.95} }, "questions[0].probs[1]", elicit.RuleProbIncreasing},
 		{"duplicate position", func(r *Record) { r.Questions[1].Position = 1 }, "questions[1].position", elicit.RuleUnknown},
 		{"question format", func(r *Record) { r.Questions[1].Format = "guess" }, "questions[1].format", elicit.RuleUnknown},
-		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", elicit.RuleValueInBounds},
+		{"true value outside", func(r *Record) { v := 2.0; r.Questions[1].TrueValue = &v }, "questions[1].true_value", elicit.RuleInRange},
 		{"answer values", func(r *Record) { r.Revisions[1].Answer.Values[1] = 0.01 }, "revisions[1].answer.values[1]", elicit.RuleValueIncreasing},
 		{"answer out of bounds", func(r *Record) { r.Revisions[4].Answer.Values[2] = 1.5 }, "revisions[4].answer.values[2]", elicit.RuleValueInBounds},
 		{"revision question", func(r *Record) { r.Revisions[2].QuestionID = 99 }, "revisions[2].question_id", elicit.RuleUnknown},

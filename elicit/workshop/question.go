@@ -40,7 +40,7 @@ const MaxChips = 1000
 // MinProbGap apart; for
 // FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
 // increase from Lower to Upper and between elicit.MinChipBins and MaxChips
-// chips; a true value, if set, finite and strictly inside (Lower, Upper).
+// chips; a true value, if set, finite and within [Lower, Upper].
 func (q Question) Validate() error {
 	if err := q.checkText(); err != nil {
 		return err
@@ -109,14 +109,19 @@ func checkProbGap(ps []float64) error {
 
 // CheckTrueValue checks a calibration question's true value, the one
 // rule for it whether it comes with the question, is set or revealed
-// later, or is imported: finite and strictly inside (Lower, Upper). Errors
-// name "true_value".
+// later, or is imported: finite and within [Lower, Upper], a bound
+// included, as elicit.CalibrationInput takes a realisation. An observed
+// share can be exactly 0 (no unit of a tested batch failed) or 1, while
+// the experts' values stay strictly inside: the realisation then falls in
+// the lowest or highest of each expert's bins, where Cooke's classical
+// model counts it, and the background measure on [Lower, Upper] is
+// unchanged. Errors name "true_value".
 func (q Question) CheckTrueValue(t float64) error {
 	if math.IsNaN(t) || math.IsInf(t, 0) {
 		return inputErr("true_value", elicit.RuleFinite, "got %v", t)
 	}
-	if !(t > q.Lower && t < q.Upper) {
-		return inputErr("true_value", elicit.RuleValueInBounds, "%v not inside (%v, %v)", t, q.Lower, q.Upper)
+	if !(t >= q.Lower && t <= q.Upper) {
+		return inputErr("true_value", elicit.RuleInRange, "%v outside [%v, %v]", t, q.Lower, q.Upper)
 	}
 	return nil
 }

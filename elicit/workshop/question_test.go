@@ -82,8 +82,16 @@ func TestQuestionValidate(t *testing.T) {
 		// Two labels "50%" for one question, and two sheet columns q50.
 		{"probs too close", func(q *Question) { q.Probs = []float64{0.05, 0.5, 0.5005, 0.95} }, "probs[2]", RuleProbGap},
 		{"probs a hair apart", func(q *Question) { q.Probs = []float64{0.05, 0.5, 0.5000001} }, "probs[2]", RuleProbGap},
-		{"true value outside", func(q *Question) { q.TrueValue = tv(1) }, "true_value", elicit.RuleValueInBounds},
+		{"true value outside", func(q *Question) { q.TrueValue = tv(1.0000001) }, "true_value", elicit.RuleInRange},
 		{"true value NaN", func(q *Question) { q.TrueValue = tv(math.NaN()) }, "true_value", elicit.RuleFinite},
+	}
+	// A true value on a bound is taken: an observed share can be 0 or 1.
+	for _, v := range []float64{0, 1} {
+		q := quantileQuestion()
+		q.Calibration, q.TrueValue = true, tv(v)
+		if err := q.Validate(); err != nil {
+			t.Errorf("true value %v on a bound refused: %v", v, err)
+		}
 	}
 	// A gap typed as exactly MinProbGap is taken, though 0.051 − 0.05 is
 	// 0.000999… in binary.
