@@ -163,8 +163,9 @@ func formatWithin(x, lower, upper float64, percent bool, min int) string {
 // FormatPercent writes a probability as a percentage without noise:
 // 0.05 → "5%", 0.025 → "2.5%", 0.33333 → "33.3%". A probability that four
 // figures write exactly keeps them, so a probability a question asks is
-// read as it was typed: 0.1025 → "10.25%", not "10.2%", which 0.1015 is
-// written as too. A probability short of 1 keeps as many more figures as
+// read as it was typed: 0.1025 → "10.25%", where three figures wrote
+// "10.2%", as for 0.1015 (both in binary a hair off the tie, on opposite
+// sides). A probability short of 1 keeps as many more figures as
 // it takes to stay short of 100% (elicit.ShapeDigits): a fitted chance of
 // 0.99977 below an expert's 95% value is "99.98%", not "100%", which reads
 // as certainty.
