@@ -382,6 +382,11 @@ type SampleSizeResult struct {
 	// fails again soon after is not settled at N: look at it over n.
 	CheckedTo    int `json:"checked_to"`
 	FailsAgainAt int `json:"fails_again_at"`
+	// WithoutData is the criterion at n = 0: the prior's own interval,
+	// before any trial. When it is met, the prior alone already meets the
+	// goal, and N = 1 is only where the search starts, not a study the
+	// goal needs (a strong prior, or one too sure of itself).
+	WithoutData CriterionResult `json:"without_data"`
 }
 
 // SampleSize is the smallest number of trials n ≥ 1 whose criterion
@@ -449,6 +454,13 @@ func sampleSize(ctx context.Context, prior Beta, goal SampleSizeGoal, budget, ma
 		return criterionAt(prior, goal, n, true)
 	}
 	res := SampleSizeResult{Goal: goal}
+	// n = 0 costs one interval: the prior itself (its predictive is the
+	// single outcome 0 with probability 1).
+	without, _, err := criterionAt(prior, goal, 0, false)
+	if err != nil {
+		return SampleSizeResult{}, err
+	}
+	res.WithoutData = without
 	work, n := 0, 1
 	for ; n <= maxN; n++ {
 		r, cost, err := eval(n)

@@ -672,3 +672,42 @@ func TestPosteriorTails(t *testing.T) {
 		t.Fatalf("%d reference rows, want 7", rows)
 	}
 }
+
+// TestSampleSizeSaysWhenThePriorAloneMeetsTheGoal: the search starts at
+// n = 1, so under a prior already narrower than the goal it answered "1
+// trial", which a project lead reads as a study the goal needs. The
+// result now carries the criterion at n = 0 (the prior's own interval),
+// checked against R 4.2's qbeta/pbeta with uniroot and optimize
+// (testdata/r/without_data_reference.R): under Beta(461.8, 14900) the
+// prior's 95% interval is 0.0054 wide, under the goal of 0.04 before any
+// trial; under Beta(2, 38) it is 0.128 wide and the goal needs a study.
+func TestSampleSizeSaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
+	rows := 0
+	for _, c := range referenceTable(t, "../testdata/r/without_data_reference.csv", "# R version", 7) {
+		var v [7]float64
+		for _, i := range []int{0, 1, 4, 5, 6} {
+			var err error
+			if v[i], err = strconv.ParseFloat(c[i], 64); err != nil {
+				t.Fatalf("row %q: %v", strings.Join(c, ","), err)
+			}
+		}
+		prior := Beta{Alpha: v[0], Beta: v[1]}
+		goal := SampleSizeGoal{Criterion: Criterion(c[2]), Interval: IntervalKind(c[3]), Level: v[4], Length: v[5]}
+		want := v[6]
+		rows++
+		r, err := SampleSize(context.Background(), prior, goal)
+		if err != nil {
+			t.Fatalf("%v %+v: %v", prior, goal, err)
+		}
+		got := r.WithoutData
+		if got.Trials != 0 || math.Abs(got.Value-want) > 1e-7 {
+			t.Errorf("%v %s/%s: without data %d trials, value %.12g, R %.12g", prior, goal.Criterion, goal.Interval, got.Trials, got.Value, want)
+		}
+		if wantMet := goal.met(want); got.Met != wantMet {
+			t.Errorf("%v %s/%s: met without data %v, want %v (R's value %.6g against %v)", prior, goal.Criterion, goal.Interval, got.Met, wantMet, want, goal.Target())
+		}
+	}
+	if rows != 12 {
+		t.Fatalf("%d reference rows, want 12", rows)
+	}
+}

@@ -88,6 +88,11 @@ type planSampleSize struct {
 	// elicit.MaxSampleSize.
 	ValueAtTrials *float64 `json:"value_at_trials,omitempty"`
 	MetAtTrials   *bool    `json:"met_at_trials,omitempty"`
+	// The criterion with no data (the prior's own interval): when it is
+	// met the prior alone already meets the goal, and n is only the
+	// smallest study that keeps it (the search starts at 1).
+	ValueWithoutData float64 `json:"value_without_data"`
+	MetWithoutData   bool    `json:"met_without_data"`
 }
 
 // planArgs are the raw flag values of `parley plan`, and which were set.
@@ -269,8 +274,9 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 			Criterion: string(size.Criterion), Interval: string(size.Interval), Level: size.Level, Length: size.Length,
 			N: r.N, Trim: size.Trim, Value: r.At.Value, Exhaustive: r.Exhaustive, ScannedTo: r.ScannedTo,
 			CheckedTo: r.CheckedTo, FailsAgainAt: r.FailsAgainAt,
+			ValueWithoutData: r.WithoutData.Value, MetWithoutData: r.WithoutData.Met,
 		}
-		nums = append(nums, r.At.Value)
+		nums = append(nums, r.At.Value, r.WithoutData.Value)
 		if size.Criterion == elicit.CriterionWOC {
 			ss.WorstOutcome = &r.At.Worst
 		}
@@ -384,6 +390,9 @@ func writePlanText(w io.Writer, o planOutput) error {
 			b.WriteString("; every smaller n was checked and fails\n")
 		} else {
 			b.WriteString("\n")
+		}
+		if s.MetWithoutData {
+			fmt.Fprintf(&b, "  the prior alone, before any trial, already meets the goal (%s with no data: %s): the goal calls for no study, and n = %d is the smallest study that keeps it; check that the prior is not surer than the evidence behind it\n", words[1], beside(s.ValueWithoutData), s.N)
 		}
 		if s.ValueAtTrials != nil {
 			met := "not met"

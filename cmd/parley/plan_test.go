@@ -359,3 +359,37 @@ func TestPlanTextValueToldFromItsGoal(t *testing.T) {
 		t.Errorf("text output lacks %q:\n%s", want, out)
 	}
 }
+
+// TestPlanSaysWhenThePriorAloneMeetsTheGoal: under Beta(461.8, 14900) the
+// prior's own 95% interval is 0.0054 wide (R 4.2's qbeta,
+// testdata/r/without_data_reference.R), so a goal of 0.04 needs no study;
+// the answer n = 1 used to stand alone, read as a study of one trial.
+// Under Beta(2, 38) (0.128 wide) the goal needs data, and nothing is said.
+func TestPlanSaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
+	got, keys := runPlanJSON(t, "--alpha", "461.8", "--beta", "14900", "--trials", "200", "--length", "0.04")
+	var ss map[string]json.RawMessage
+	if err := json.Unmarshal(keys["sample_size"], &ss); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{"value_without_data", "met_without_data"} {
+		if _, ok := ss[k]; !ok {
+			t.Errorf("sample_size.%s missing", k)
+		}
+	}
+	const rWidth = 0.0053993294378082701 // R: qbeta(0.975, 461.8, 14900) - qbeta(0.025, 461.8, 14900)
+	if s := got.SampleSize; s.N != 1 || !s.MetWithoutData || !nearRel(s.ValueWithoutData, rWidth, 1e-7) {
+		t.Errorf("n %d, met without data %v, value %.10g (R %.10g)", s.N, s.MetWithoutData, s.ValueWithoutData, rWidth)
+	}
+	code, out, _ := runCLI(t, "", "plan", "--alpha", "461.8", "--beta", "14900", "--trials", "200", "--length", "0.04")
+	if code != 0 || !strings.Contains(out, "the prior alone, before any trial, already meets the goal (expected width with no data: 0.005399)") {
+		t.Errorf("exit %d; the text does not say the prior alone meets the goal:\n%s", code, out)
+	}
+	got, _ = runPlanJSON(t, "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.04")
+	const rWidth238 = 0.12849194946380749 // R: qbeta(0.975, 2, 38) - qbeta(0.025, 2, 38)
+	if s := got.SampleSize; s.MetWithoutData || !nearRel(s.ValueWithoutData, rWidth238, 1e-7) {
+		t.Errorf("Beta(2, 38): met without data %v, value %.10g (R %.10g)", s.MetWithoutData, s.ValueWithoutData, rWidth238)
+	}
+	if _, out, _ := runCLI(t, "", "plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.04"); strings.Contains(out, "prior alone") {
+		t.Errorf("Beta(2, 38) said to meet the goal alone:\n%s", out)
+	}
+}
