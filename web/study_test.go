@@ -676,3 +676,37 @@ func TestPlanUnderThePosterior(t *testing.T) {
 		}
 	}
 }
+
+// TestStudySaysWhenThePriorAloneMeetsTheGoal: an agreed prior worth
+// 15,360 trials, Beta(460, 14900), has a 95% interval about 0.0054 wide
+// (R 4.2: qbeta(0.975, 460, 14900) − qbeta(0.025, 460, 14900) = 0.0053897),
+// so a goal of intervals at most 0.04 wide is met before any trial. The
+// page said only "the smallest study … has 1 trial"; it now says the
+// prior alone meets the goal. Under Beta(2, 38) (0.128 wide) it says
+// nothing of the kind.
+func TestStudySaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	for _, c := range []struct {
+		successes, trials float64
+		alone             bool
+	}{{460, 15360, true}, {2, 40, false}} {
+		in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: c.successes, Trials: c.trials, Upper: 1}
+		made, err := elicit.Construct(in)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
+			Dist: made.Dist, Construction: &in, Rationale: "invented", RoundOpen: true}); err != nil {
+			t.Fatal(err)
+		}
+		res, body := h.get(sp + "?trials=200&length=0.04&level=0.95&criterion=alc&interval=equal")
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%v: status %d", made.Dist, res.StatusCode)
+		}
+		said := strings.Contains(body, "The prior alone, before any trial, already meets this goal (expected width with no data: 0.00539)")
+		if said != c.alone {
+			t.Errorf("%v: says the prior alone meets the goal: %v, want %v", made.Dist, said, c.alone)
+		}
+	}
+}
