@@ -311,6 +311,13 @@ func planStudy(ctx context.Context, p planView) planView {
 	}
 	p.Trials = f.Int("trials", 1, elicit.MaxPredictiveTrials)
 	if f.Value("threshold") != "" || f.Value("confidence") != "" {
+		// One of the pair alone: say what it is required with, since
+		// the form invites leaving the criterion empty.
+		for _, pair := range [][2]string{{"threshold", "confidence"}, {"confidence", "threshold"}} {
+			if strings.TrimSpace(f.Value(pair[0])) == "" {
+				f.set(pair[0], "is required with a "+pair[1]+" (leave both empty to skip the assurance)")
+			}
+		}
 		g := elicit.SuccessCriterion{
 			Threshold:  f.Float("threshold"),
 			Direction:  elicit.Direction(f.Choice("direction", "", string(elicit.DirectionBelow), string(elicit.DirectionAbove))),

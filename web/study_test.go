@@ -710,3 +710,20 @@ func TestStudySaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
 		}
 	}
 }
+
+// TestStudyAssurancePairNamesItsPartner: a threshold without a confidence
+// (or the reverse) was refused with "is required" beside a field the form
+// says may be left empty; the message now says what it is required with.
+func TestStudyAssurancePairNamesItsPartner(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	for _, c := range []struct{ query, field, want string }{
+		{"trials=50&threshold=0.1&direction=below", "confidence", "is required with a threshold (leave both empty to skip the assurance)"},
+		{"trials=50&confidence=0.9&direction=below", "threshold", "is required with a confidence (leave both empty to skip the assurance)"},
+	} {
+		res, body := h.get(sp + "?" + c.query)
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) || !strings.Contains(body, c.want) {
+			t.Errorf("%s: status %d, beside %q: %v, says %q: %v", c.query, res.StatusCode, c.field, hasFieldError(body, c.field), c.want, strings.Contains(body, c.want))
+		}
+	}
+}
