@@ -727,3 +727,24 @@ func TestStudyAssurancePairNamesItsPartner(t *testing.T) {
 		}
 	}
 }
+
+// TestStudyTypicalOutcomeNamesItsPriorInASentence: the sentence read
+// "the median of the predictive under Agreed prior (the prior the study is
+// planned under)", a label dropped into the middle of a sentence; the
+// label now stands in brackets after the words.
+func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 2, Trials: 40, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: "invented", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
+	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=100")
+	if !strings.Contains(body, "the median of the predictive under the prior the study is planned under (Agreed prior).") || strings.Contains(body, "under Agreed prior (") {
+		t.Error("the typical outcome's sentence does not name its prior in brackets")
+	}
+}
