@@ -124,6 +124,7 @@ func TestStudyDataRefusesBadInput(t *testing.T) {
 		{"date not a day", "observed_on", good(map[string]string{"observed_on": "2026-02-30"})},
 		{"date day first", "observed_on", good(map[string]string{"observed_on": "31/01/2027"})},
 		{"date in the future", "observed_on", good(map[string]string{"observed_on": "2999-01-01"})},
+		{"date with a mistyped year", "observed_on", good(map[string]string{"observed_on": "0026-01-31"})},
 	} {
 		before := h.studyCounts(ws.ID)
 		res, body := h.post(sp+"/data", c.form)

@@ -112,6 +112,7 @@ func TestValidateRefusesBadStudyData(t *testing.T) {
 		{"unknown question", func(r *Record) { r.StudyData[0].QuestionID = 99 }, "study_data[0].question_id"},
 		{"question without a prior", func(r *Record) { r.StudyData[0].QuestionID = 12 }, "study_data[0].question_id"},
 		{"not a date", func(r *Record) { r.StudyData[0].ObservedOn = "31.05.2026" }, "study_data[0].observed_on"},
+		{"a mistyped year", func(r *Record) { r.StudyData[0].ObservedOn = "0026-05-31" }, "study_data[0].observed_on"},
 		{"observed after it was recorded", func(r *Record) { r.StudyData[0].ObservedOn = r.StudyData[0].At.AddDate(0, 0, 3).Format("2006-01-02") }, "study_data[0].observed_on"},
 		{"no source", func(r *Record) { r.StudyData[0].Source = "" }, "study_data[0].source"},
 		{"a prior on other bounds than its question's", func(r *Record) {

@@ -40,7 +40,7 @@ func (d StudyData) Validate() error {
 	if err := input.CheckText("source", d.Source, input.MaxShortText, true); err != nil {
 		return err
 	}
-	return input.CheckDate("observed_on", d.ObservedOn)
+	return input.CheckObservedDate("observed_on", d.ObservedOn)
 }
 
 // CheckObservedBy refuses a batch observed after the day it is recorded

@@ -9,6 +9,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // ComparedPriors lists each pooled expert's own fit (A's current one, B;
@@ -184,6 +185,9 @@ func TestStudyDataRules(t *testing.T) {
 	if err := ok.Validate(); err != nil {
 		t.Fatal(err)
 	}
+	if err := (StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: input.EarliestObserved}).Validate(); err != nil {
+		t.Errorf("the earliest day: %v", err)
+	}
 	for _, c := range []struct {
 		d     StudyData
 		field string
@@ -193,6 +197,9 @@ func TestStudyDataRules(t *testing.T) {
 		{StudyData{Successes: 0, Trials: elicit.MaxUpdateTrials + 1, Source: "log", ObservedOn: "2026-01-01"}, "trials"},
 		{StudyData{Successes: 0, Trials: 1, Source: "", ObservedOn: "2026-01-01"}, "source"},
 		{StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "1 Jan 2027"}, "observed_on"},
+		// A mistyped year: batches are never removed, so it would stay.
+		{StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "0026-03-31"}, "observed_on"},
+		{StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "1899-12-31"}, "observed_on"},
 	} {
 		var ie *elicit.InputError
 		if err := c.d.Validate(); !errors.As(err, &ie) || ie.Field != c.field {
