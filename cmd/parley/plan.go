@@ -351,13 +351,13 @@ func writePlanText(w io.Writer, o planOutput) error {
 		default:
 			fmt.Fprintf(&b, "  the study succeeds if it sees at least %s\n", countOf(s.SuccessesFrom, "success", "successes"))
 		}
-		fmt.Fprintf(&b, "  assurance over the number of trials:")
 		step := max(1, len(o.AssuranceCurve)/8)
+		var points []string
 		for i := step - 1; i < len(o.AssuranceCurve); i += step {
 			c := o.AssuranceCurve[i]
-			fmt.Fprintf(&b, " %d: %s;", c.Trials, elicit.ProbabilityText(c.Assurance, 3))
+			points = append(points, fmt.Sprintf("%d: %s", c.Trials, elicit.ProbabilityText(c.Assurance, 3)))
 		}
-		b.WriteString("\n")
+		fmt.Fprintf(&b, "  assurance over the number of trials: %s\n", strings.Join(points, "; "))
 	}
 	if s := o.SampleSize; s != nil {
 		words := criterionWords[s.Criterion]

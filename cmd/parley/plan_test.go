@@ -195,6 +195,11 @@ func TestPlanText(t *testing.T) {
 			t.Errorf("text output lacks %q:\n%s", want, out)
 		}
 	}
+	// The curve's points are separated by semicolons, and the line ends
+	// with its last point, not with a semicolon.
+	if !regexp.MustCompile(`(?m)^  assurance over the number of trials: \d+: [0-9.]+(; \d+: [0-9.]+)*$`).MatchString(out) {
+		t.Errorf("the assurance curve's line is not a list of points:\n%s", out)
+	}
 }
 
 // TestPlanBadInput: every flag's rules. One rule is tested in elicit
