@@ -19,9 +19,14 @@ import (
 // reads, in a form or on the command line: plain decimals only, no NaN,
 // Inf, hex or underscores.
 
+// cautionJSON is the caution the JSON of prior, plan and update carries
+// (key "caution"): their numbers are often passed on without the text
+// around them, as the priors CSV's rows are.
+const cautionJSON = "An elicited prior is documented judgement, not data. Review it, test how sensitive decisions are to it, and defer to your field's own guidance and regulators where harm to people, safety or the environment is at stake."
+
 // priorCaution is shown with every fitted, pooled or updated prior in
-// text output.
-const priorCaution = "Caution: an elicited prior is documented judgement, not data. Review it, test how sensitive decisions are to it, and defer to your field's own guidance and regulators where harm to people, safety or the environment is at stake."
+// text output: cautionJSON after "Caution: ".
+var priorCaution = "Caution: a" + cautionJSON[1:]
 
 // parseArgs parses the flags of a scripting command. Flag errors become
 // one line on stderr and exit status 2; -h prints the flags to stdout.

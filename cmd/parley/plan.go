@@ -46,6 +46,7 @@ type planOutput struct {
 	// SampleSize when --length is given.
 	SampleSize *planSampleSize `json:"sample_size,omitempty"`
 	Warnings   []string        `json:"warnings"`
+	Caution    string          `json:"caution"`
 }
 
 type planQuantiles struct {
@@ -234,7 +235,7 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	predMean, predSD := elicit.PredictiveMoments(prior, n)
 	out := planOutput{
 		Alpha: alpha, Beta: beta, PriorMean: prior.Mean(), PriorSD: prior.SD(), Worth: worth,
-		Trials: n, DataShare: worth.DataShare(n), Predictive: pmf,
+		Trials: n, DataShare: worth.DataShare(n), Predictive: pmf, Caution: cautionJSON,
 		PredictiveMean: predMean,
 		PredictiveSD:   predSD,
 		PredictivePercentiles: planQuantiles{

@@ -398,3 +398,26 @@ func TestPlanSaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
 		t.Errorf("Beta(2, 38) said to meet the goal alone:\n%s", out)
 	}
 }
+
+// TestJSONCarriesTheCaution: the text of prior, plan and update ends with
+// the caution on elicited priors, but their JSON, the form a script
+// passes on, carried none. Each now has the key "caution".
+func TestJSONCarriesTheCaution(t *testing.T) {
+	for _, args := range [][]string{
+		{"prior", "--interval", "0.03,0.12", "--coverage", "0.9"},
+		{"plan", "--alpha", "2", "--beta", "38", "--trials", "20"},
+		{"update", "--alpha", "2", "--beta", "38", "--successes", "1", "--trials", "20"},
+	} {
+		code, out, errOut := runCLI(t, "", append(args, "--format", "json")...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errOut)
+		}
+		var keys map[string]json.RawMessage
+		decodeJSON(t, out, &keys)
+		var caution string
+		if err := json.Unmarshal(keys["caution"], &caution); err != nil || !strings.HasPrefix(caution, "An elicited prior is documented judgement, not data.") ||
+			!strings.Contains(caution, "regulators") {
+			t.Errorf("%v: caution %q (%v)", args, caution, err)
+		}
+	}
+}

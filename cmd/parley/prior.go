@@ -41,6 +41,7 @@ type priorOutput struct {
 	Input       elicit.ConstructionInput `json:"input"`
 	Warnings    []string                 `json:"warnings"`
 	WarningCode []string                 `json:"warning_codes"`
+	Caution     string                   `json:"caution"`
 }
 
 type priorAlternative struct {
@@ -200,7 +201,7 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 	}
 	out := priorOutput{
 		Alpha: c.Dist.Alpha, Beta: c.Dist.Beta.Beta, Lower: c.Dist.Lower, Upper: c.Dist.Upper,
-		Method: string(method), Mean: c.Dist.Mean(), SD: c.Dist.SD(),
+		Method: string(method), Mean: c.Dist.Mean(), SD: c.Dist.SD(), Caution: cautionJSON,
 		Q05: c.Dist.Quantile(0.05), Q50: c.Dist.Quantile(0.5), Q95: c.Dist.Quantile(0.95),
 		Worth: elicit.Worth(c.Dist.Beta), Description: c.Describe(), Input: c.Input,
 		Warnings: []string{}, WarningCode: []string{},

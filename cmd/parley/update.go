@@ -35,6 +35,7 @@ type updateOutput struct {
 	// null, with a warning, when trials exceed elicit.MaxPredictiveTrials.
 	Conflict *elicit.Conflict `json:"prior_data_conflict"`
 	Warnings []string         `json:"warnings"`
+	Caution  string           `json:"caution"`
 }
 
 func runUpdate(args []string, _ io.Reader, stdout, stderr io.Writer) int {
@@ -97,7 +98,7 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 	out := updateOutput{
 		Prior: prior, Successes: s, Trials: n, Level: level,
 		Alpha: post.Alpha, Beta: post.Beta, Mean: post.Mean(), SD: post.SD(),
-		Interval: up.Interval, HDI: up.HDI,
+		Interval: up.Interval, HDI: up.HDI, Caution: cautionJSON,
 		Warnings: []string{},
 	}
 	if n <= elicit.MaxPredictiveTrials {
