@@ -358,7 +358,7 @@ func planStudy(ctx context.Context, p planView) planView {
 	p.Share = p.Worth.DataShare(p.Trials)
 	p.PredMean, p.PredSD = elicit.PredictiveMoments(prior, p.Trials)
 	p.PredQ = [3]int{elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95)}
-	p.PredPic = chart.PredictiveView{ID: "predictive", Trials: p.Trials, PMF: pmf}
+	p.PredPic = chart.PredictiveView{ID: "predictive", Trials: p.Trials, PMF: pmf, FollowUp: p.Chosen.AfterData}
 	if p.Goal != nil {
 		a, err := elicit.Assurance(prior, p.Trials, *p.Goal)
 		if err != nil {
@@ -372,7 +372,7 @@ func planStudy(ctx context.Context, p planView) planView {
 		}
 		p.Assure, p.Curve = &a, curve
 		p.PredPic.Success, p.PredPic.SuccessFrom, p.PredPic.SuccessTo = true, a.SuccessFrom, a.SuccessTo
-		p.CurvePic = chart.AssuranceView{ID: "assurance", Planned: p.Trials}
+		p.CurvePic = chart.AssuranceView{ID: "assurance", Planned: p.Trials, FollowUp: p.Chosen.AfterData}
 		for _, c := range curve {
 			p.CurvePic.Trials = append(p.CurvePic.Trials, c.Trials)
 			p.CurvePic.Assurance = append(p.CurvePic.Assurance, c.Assurance)

@@ -658,7 +658,7 @@ func TestPlanUnderThePosterior(t *testing.T) {
 	if !strings.Contains(body, "<h3>Under Agreed prior, Beta(2, 38)</h3>") {
 		t.Error("the default plan is not under the agreed prior")
 	}
-	_, body = h.get(sp + "?prior=posterior&trials=100")
+	_, body = h.get(sp + "?prior=posterior&trials=100&threshold=0.08&direction=below&confidence=0.5")
 	body = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(body, " "))
 	pmf, err := elicit.PriorPredictive(elicit.Beta{Alpha: 10, Beta: 230}, 100)
 	if err != nil {
@@ -671,9 +671,25 @@ func TestPlanUnderThePosterior(t *testing.T) {
 		"carries about as much information as 240 observed trials",
 		"For the recorded data together with a typical outcome of the planned 100 trials: " + strconv.Itoa(typical) + " success",
 		"Each prior learns from both: " + successesIn(8+typical, 300) + " in all.",
+		// A follow-up's outcomes are predicted before its own data, not
+		// before any: 8 in 200 are already in its prior.
+		"Before the follow-up study's own data, the number of successes in 100 trials",
+		"The chance of that, before the follow-up study's own data, with 100 trials",
+		"Bars: the probability of each number of successes in 100 trials before the follow-up study's own data, under the posterior after the data already recorded.",
+		"The probability, before the follow-up study's own data, under the posterior after the data already recorded, that the study meets",
 	} {
 		if !strings.Contains(body, want) {
 			t.Errorf("the plan under the posterior lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "before any data") || strings.Contains(body, "Before any data") {
+		t.Error("the plan under the posterior says its outcomes are predicted before any data")
+	}
+	_, body = h.get(sp + "?trials=100&threshold=0.08&direction=below&confidence=0.5")
+	body = html.UnescapeString(regexp.MustCompile(`\s+`).ReplaceAllString(body, " "))
+	for _, want := range []string{"Before any data, the number of successes", "The chance of that, before any data,", "in 100 trials before any data, under the prior."} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the plan under the agreed prior lacks %q", want)
 		}
 	}
 }

@@ -93,6 +93,10 @@ type PredictiveView struct {
 	PMF                    []float64
 	Success                bool
 	SuccessFrom, SuccessTo int
+	// FollowUp: the study is planned under the posterior after data
+	// already recorded, so its outcomes are predicted before its own data,
+	// not before any.
+	FollowUp bool
 }
 
 type barGeom struct {
@@ -196,7 +200,7 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 	}
 	m.Title = "Prior predictive distribution of the successes in " + trialCount(v.Trials)
 	var b strings.Builder
-	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %s before any data, under the prior. ", trialCount(v.Trials))
+	fmt.Fprintf(&b, "Bars: the probability of each number of successes in %s %s. ", trialCount(v.Trials), beforeData(v.FollowUp))
 	if lo > 0 || hi < len(v.PMF)-1 {
 		fmt.Fprintf(&b, "Outcomes from %d to %d are drawn; the rest together have probability under %s. ", lo, hi, FormatPercent(2*predictiveTail))
 	}
@@ -222,6 +226,7 @@ type AssuranceView struct {
 	Trials    []int
 	Assurance []float64
 	Planned   int
+	FollowUp  bool // as PredictiveView's
 }
 
 type assuranceDrawing struct {
@@ -277,8 +282,8 @@ func newAssuranceModel(v AssuranceView) assuranceModel {
 	}
 	m.Title = "Assurance over the number of trials"
 	first, end := v.Assurance[0], v.Assurance[len(v.Assurance)-1]
-	m.Desc = fmt.Sprintf("The probability, before any data and under the prior, that the study meets its success criterion, at %d numbers of trials from %d to %d: %s at %s and %s at %d. The curve has steps because the number of successes is a whole number.",
-		len(v.Trials), v.Trials[0], v.Trials[len(v.Trials)-1], FormatPercent(first), trialCount(v.Trials[0]), FormatPercent(end), v.Trials[len(v.Trials)-1])
+	m.Desc = fmt.Sprintf("The probability, %s, that the study meets its success criterion, at %d numbers of trials from %d to %d: %s at %s and %s at %d. The curve has steps because the number of successes is a whole number.",
+		beforeData(v.FollowUp), len(v.Trials), v.Trials[0], v.Trials[len(v.Trials)-1], FormatPercent(first), trialCount(v.Trials[0]), FormatPercent(end), v.Trials[len(v.Trials)-1])
 	return m
 }
 
@@ -414,4 +419,14 @@ func clipLabel(s string, n int) string {
 		return s
 	}
 	return string(r[:n-1]) + "…"
+}
+
+// beforeData says when and under what a planned study's outcomes are
+// predicted: before any data under the prior, or, for a follow-up to data
+// already recorded, before its own data under the posterior after them.
+func beforeData(followUp bool) string {
+	if followUp {
+		return "before the follow-up study's own data, under the posterior after the data already recorded"
+	}
+	return "before any data, under the prior"
 }
