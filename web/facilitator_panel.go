@@ -214,6 +214,7 @@ type panelView struct {
 	// WithholdForm is a refused withhold or release, shown again.
 	WithholdForm *Form
 	Strength     strengthView // calibration.go: warnings about performance weights
+	Recorded     recordedData // study data the agreed prior is updated with
 }
 
 // reasoned are the question's revisions that carry a reason, oldest first.
@@ -296,6 +297,10 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
 	v.Strength = panelStrength(d)
+	if v.Recorded, err = s.recordedFor(r.Context(), ws, q); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	m := facilitatorMeta(ws, fmt.Sprintf("Q%d %s", q.Position, q.Quantity), "overview")
 	m.Caution = true
 	m.Scripts = []string{"/static/live.js"}

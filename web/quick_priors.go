@@ -109,6 +109,7 @@ type quickView struct {
 	Form      *Form
 	Results   []quickResult
 	AgreeForm *Form
+	Recorded  recordedData // the chosen question's study data
 }
 
 func (s *Server) quickPriors(w http.ResponseWriter, r *http.Request) {
@@ -143,6 +144,12 @@ func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws work
 	status := http.StatusOK
 	if len(f.Values) > 0 && len(v.Questions) > 0 {
 		v.Question, v.Results = readQuick(f, v.Questions)
+	}
+	if v.Question != nil {
+		if v.Recorded, err = s.recordedFor(r.Context(), ws, *v.Question); err != nil {
+			s.fail(w, r, err)
+			return
+		}
 	}
 	if !f.OK() || !v.AgreeForm.OK() {
 		status = v.AgreeForm.refusedStatus()

@@ -489,3 +489,23 @@ func thinCurve(c []elicit.AssuranceResult) []elicit.AssuranceResult {
 	}
 	return out
 }
+
+// recordedData is the study data already recorded against a question's
+// agreed prior, all batches together.
+type recordedData struct{ Successes, Trials, Batches int }
+
+// recordedFor reads the study data recorded for question q of workshop
+// ws: a form that records a new agreed prior says that the study page
+// will update it with them.
+func (s *Server) recordedFor(ctx context.Context, ws workshop.Workshop, q workshop.Question) (recordedData, error) {
+	if !q.IsProportion() {
+		return recordedData{}, nil
+	}
+	data, err := s.store.StudyData(ctx, ws.ID)
+	if err != nil {
+		return recordedData{}, err
+	}
+	var d recordedData
+	d.Successes, d.Trials, d.Batches = workshop.DataTotals(data, q.ID)
+	return d, nil
+}

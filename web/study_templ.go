@@ -2333,4 +2333,59 @@ func compareBlock(b sensitivityBlock) templ.Component {
 	})
 }
 
+// dataAlreadyRecorded warns, beside a form that records a new agreed
+// prior, that the question's recorded data will update it: data that
+// informed the new prior would be counted twice (Update.TwiceCounted says
+// so afterwards on the study page; this says it before).
+func dataAlreadyRecorded(d recordedData) templ.Component {
+	return templruntime.GeneratedTemplate(func(templ_7745c5c3_Input templruntime.GeneratedComponentInput) (templ_7745c5c3_Err error) {
+		templ_7745c5c3_W, ctx := templ_7745c5c3_Input.Writer, templ_7745c5c3_Input.Context
+		if templ_7745c5c3_CtxErr := ctx.Err(); templ_7745c5c3_CtxErr != nil {
+			return templ_7745c5c3_CtxErr
+		}
+		templ_7745c5c3_Buffer, templ_7745c5c3_IsBuffer := templruntime.GetBuffer(templ_7745c5c3_W)
+		if !templ_7745c5c3_IsBuffer {
+			defer func() {
+				templ_7745c5c3_BufErr := templruntime.ReleaseBuffer(templ_7745c5c3_Buffer)
+				if templ_7745c5c3_Err == nil {
+					templ_7745c5c3_Err = templ_7745c5c3_BufErr
+				}
+			}()
+		}
+		ctx = templ.InitializeContext(ctx)
+		ctx = templ.ClearChildren(ctx)
+		if d.Batches > 0 {
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 211, "<p class=\"warning\" role=\"note\" id=\"data-already-recorded\">")
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			var templ_7745c5c3_Var114 string
+			templ_7745c5c3_Var114, templ_7745c5c3_Err = templ.JoinStringErrs(d.words())
+			if templ_7745c5c3_Err != nil {
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/study.templ`, Line: 506, Col: 71}
+			}
+			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var114))
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 212, "</p>")
+			if templ_7745c5c3_Err != nil {
+				return templ_7745c5c3_Err
+			}
+		}
+		return nil
+	})
+}
+
+// words is dataAlreadyRecorded's sentence.
+func (d recordedData) words() string {
+	batches := "1 batch"
+	if d.Batches != 1 {
+		batches = strconv.Itoa(d.Batches) + " batches"
+	}
+	return "Data are already recorded against this question: " + successesIn(d.Successes, d.Trials) + " (" + batches + "). " +
+		"A prior recorded now replaces the agreed prior, and the study page updates it with those data: " +
+		"if they informed it, the posterior counts them twice."
+}
+
 var _ = templruntime.GeneratedTemplate

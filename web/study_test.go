@@ -765,3 +765,36 @@ func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
 		t.Error("the typical outcome's sentence does not name its prior in brackets")
 	}
 }
+
+// TestRecordingAPriorSaysDataAreRecorded: a new agreed prior recorded
+// after study data is updated with them, and the study page said so only
+// afterwards ("the posterior counts them twice"). Both forms that record
+// a prior, on the question's page and on the quick priors page, now say
+// it before, and say nothing while no data are recorded.
+func TestRecordingAPriorSaysDataAreRecorded(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 2, Beta: 38}, "Invented: about 2 in 40.")
+	q := qs[0]
+	pages := []string{questionPath(ws.ID, q.ID), quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(q.ID, 10) + "&construction=uniform"}
+	for _, p := range pages {
+		if _, body := h.get(p); strings.Contains(body, `id="data-already-recorded"`) {
+			t.Errorf("%s: warns of recorded data before any are recorded", p)
+		}
+	}
+	for _, b := range []url.Values{
+		{"successes": {"3"}, "trials": {"120"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}},
+		{"successes": {"5"}, "trials": {"80"}, "source": {"Site log (invented)"}, "observed_on": {"2026-06-30"}},
+	} {
+		if res, body := h.post(studyPath(ws.ID, q.ID)+"/data", b); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record data: %d %s", res.StatusCode, body)
+		}
+	}
+	for _, p := range pages {
+		_, body := h.get(p)
+		if !strings.Contains(body, `id="data-already-recorded"`) ||
+			!strings.Contains(body, "Data are already recorded against this question: 8 successes in 200 trials (2 batches).") ||
+			!strings.Contains(body, "the posterior counts them twice") {
+			t.Errorf("%s: does not say that 8 successes in 200 trials are recorded and would update the new prior", p)
+		}
+	}
+}
