@@ -145,6 +145,42 @@ func TestStudyInBrowser(t *testing.T) {
 		fits(t, lead, "study page under the posterior", w)
 		shots.take(lead, fmt.Sprintf("study-03-plan-under-the-posterior-%d", w))
 	}
+
+	// Under the most certain expert's fit, the prior's own 95% interval
+	// is already narrower than 0.04: the page says the goal calls for no
+	// study rather than only "1 trial".
+	strong := eval[string](lead, "the most certain expert's choice", `(() => {
+		const o = [...document.querySelectorAll('#f-prior option')].find(o => o.textContent.startsWith('Ole Brandt'));
+		return o ? o.value : "";
+	})()`)
+	if strong == "" {
+		t.Fatal("no choice for Ole Brandt's fit")
+	}
+	qv = after.Query()
+	qv.Set("prior", strong)
+	after.RawQuery = qv.Encode()
+	for _, w := range []int64{390, 1366} {
+		lead.viewport(w, 900, w < 600)
+		lead.open(after.String())
+		lead.sees("a prior that meets the goal alone", "The prior alone, before any trial, already meets this goal")
+		fits(t, lead, "study page under a strong prior", w)
+		shots.take(lead, fmt.Sprintf("study-04-prior-alone-meets-the-goal-%d", w))
+	}
+
+	// A new prior recorded after the data says, before it is recorded,
+	// that the data already recorded will update it.
+	quick := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/quick-priors?question=" + strconv.FormatInt(qs[0].ID, 10) +
+		"&construction=equivalent_sample&c_successes=3&c_trials=60"
+	for _, w := range []int64{390, 1366} {
+		lead.viewport(w, 900, w < 600)
+		lead.open(quick)
+		lead.sees("quick priors after data", "Data are already recorded against this question: 8 successes in 200 trials (2 batches).")
+		fits(t, lead, "quick priors after data", w)
+		if axe != "" {
+			accessible(t, lead, axe, fmt.Sprintf("quick priors after data at %d px", w))
+		}
+		shots.take(lead, fmt.Sprintf("study-05-new-prior-after-data-%d", w))
+	}
 }
 
 // axeSourceOrNothing is axeSource without skipping the whole test: the
