@@ -212,7 +212,7 @@ func TestScriptingBadInput(t *testing.T) {
 		want  []string // fragments of the message
 	}{
 		{"successes above trials", with(good, "--successes", "60"), "", []string{"successes", string(elicit.RuleCountRange)}},
-		{"negative trials", with(good, "--trials", "-5"), "", []string{"trials", string(elicit.RuleInteger)}},
+		{"negative trials", with(good, "--trials", "-5"), "", []string{"trials", string(elicit.RuleCountRange), "got -5"}}, // a whole number below the range, not "not a whole number"
 		{"hex alpha", with(good, "--alpha", "0x1p-2"), "", []string{"alpha", "plain decimal"}},
 		{"underscore beta", with(good, "--beta", "3_8"), "", []string{"beta", "plain decimal"}},
 		{"NaN alpha", with(good, "--alpha", "NaN"), "", []string{"alpha", "plain decimal"}},

@@ -153,7 +153,9 @@ func TestWhole(t *testing.T) {
 		{" 7 ", 7, ""},
 		{"0", 0, ""},
 		{"", 0, elicit.RuleRequired},
-		{"-1", 0, elicit.RuleInteger},
+		{"-1", 0, elicit.RuleCountRange}, // a whole number, below the range: "must be a whole number" misled
+		{"-", 0, elicit.RuleInteger},
+		{"-1.5", 0, elicit.RuleInteger},
 		{"+3", 0, elicit.RuleInteger},
 		{"2.0", 0, elicit.RuleInteger},
 		{"1e3", 0, elicit.RuleInteger},
