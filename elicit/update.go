@@ -53,7 +53,7 @@ func checkData(prior Beta, successes, trials int) error {
 		return inputErr("successes", RuleNonNegative, "got %d", successes)
 	}
 	if successes > trials {
-		return inputErr("successes", RuleCountRange, "%d successes in %d trials", successes, trials)
+		return inputErr("successes", RuleCountRange, "%s in %s", counted(float64(successes), "success", "successes"), counted(float64(trials), "trial", "trials"))
 	}
 	return nil
 }

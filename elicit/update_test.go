@@ -510,3 +510,18 @@ func TestPredictiveCDFScipy(t *testing.T) {
 		}
 	}
 }
+
+// TestMoreSuccessesThanTrialsSaysSoInWords: the refusal read "1 successes
+// in 0 trials"; each count now takes its own number.
+func TestMoreSuccessesThanTrialsSaysSoInWords(t *testing.T) {
+	for _, c := range []struct {
+		s, n int
+		want string
+	}{{1, 0, "1 success in 0 trials"}, {2, 1, "2 successes in 1 trial"}, {12, 5, "12 successes in 5 trials"}} {
+		_, err := Posterior(Beta{Alpha: 2, Beta: 3}, c.s, c.n)
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Field != "successes" || ie.Detail != c.want {
+			t.Errorf("%d in %d: %v, want the detail %q", c.s, c.n, err, c.want)
+		}
+	}
+}
