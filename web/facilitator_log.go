@@ -2,7 +2,6 @@ package web
 
 import (
 	"encoding/json"
-	"fmt"
 	"net/http"
 	"strconv"
 	"strings"
@@ -253,7 +252,7 @@ func (w eventWriter) sentence(e workshop.Event) string {
 		return correction(d)
 	case workshop.EventDataRecorded:
 		if d.Trials > 0 {
-			return fmt.Sprintf("%d successes in %d trials, observed on %s, added to the data that update the agreed prior.", d.Successes, d.Trials, d.ObservedOn)
+			return successesIn(d.Successes, d.Trials) + ", observed on " + d.ObservedOn + ", added to the data that update the agreed prior."
 		}
 	case workshop.EventAnswersImported:
 		if d.SHA256 != "" && len(d.Rows) > 0 {

@@ -798,3 +798,27 @@ func TestRecordingAPriorSaysDataAreRecorded(t *testing.T) {
 		}
 	}
 }
+
+// TestDataInTheLogTakeTheirNumber: the decision log wrote a batch of one
+// success as "1 successes in 3 trials"; it now takes the singular, in the
+// log and in the report's log.
+func TestDataInTheLogTakeTheirNumber(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 2, Beta: 38}, "Invented: about 2 in 40.")
+	for _, b := range []url.Values{
+		{"successes": {"1"}, "trials": {"3"}, "source": {"Bench (invented)"}, "observed_on": {"2026-03-31"}},
+		{"successes": {"0"}, "trials": {"1"}, "source": {"Bench (invented)"}, "observed_on": {"2026-04-30"}},
+	} {
+		if res, body := h.post(studyPath(ws.ID, qs[0].ID)+"/data", b); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record data: %d %s", res.StatusCode, body)
+		}
+	}
+	for _, p := range []string{workshopPath(ws.ID) + "/log", workshopPath(ws.ID) + "/report"} {
+		_, body := h.get(p)
+		for _, want := range []string{"1 success in 3 trials, observed on 2026-03-31", "0 successes in 1 trial, observed on 2026-04-30"} {
+			if !strings.Contains(body, want) {
+				t.Errorf("%s lacks %q", p, want)
+			}
+		}
+	}
+}
