@@ -822,3 +822,20 @@ func TestDataInTheLogTakeTheirNumber(t *testing.T) {
 		}
 	}
 }
+
+// TestStudySaysWhenTheCriterionIsNotEvaluatedAtThePlannedTrials: planned
+// beyond elicit.MaxSampleSize trials, the page left out the criterion at
+// the planned trials without a word (parley plan warns); it now says so.
+func TestStudySaysWhenTheCriterionIsNotEvaluatedAtThePlannedTrials(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 2, Beta: 38}, "Invented: about 2 in 40.")
+	sp := studyPath(ws.ID, qs[0].ID)
+	res, body := h.get(sp + "?trials=200000&length=0.04&level=0.95&criterion=alc&interval=equal")
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "At the planned 200000 trials the expected width is not worked out: the criterion is evaluated up to 100000 trials.") {
+		t.Errorf("status %d; the page does not say the criterion is not evaluated at 200000 trials", res.StatusCode)
+	}
+	if _, body := h.get(sp + "?trials=200&length=0.04&level=0.95&criterion=alc&interval=equal"); strings.Contains(body, "size-at-trials-not-evaluated") ||
+		!strings.Contains(body, "At the planned 200 trials the expected width is") {
+		t.Error("at 200 planned trials the criterion is not given")
+	}
+}
