@@ -118,6 +118,13 @@ func TestStudyInBrowser(t *testing.T) {
 		lead.viewport(w, 900, w < 600)
 		lead.open(here)
 		fits(t, lead, "study page", w)
+		// A date is read whole: on a phone "2026-03-31" was broken after
+		// its second hyphen, the day alone on the next line.
+		if !eval[bool](lead, "the day observed on one line", `[...document.querySelectorAll('#data tbody tr:not(.row-total) td:first-child')].every(td => {
+			const r = document.createRange(); r.selectNodeContents(td); return r.getClientRects().length === 1;
+		})`) {
+			t.Errorf("at %d px a day observed is broken over lines", w)
+		}
 		if w == 360 {
 			continue
 		}
