@@ -95,7 +95,7 @@ func FromMeanSD(m, sd float64) (Beta, error) {
 		return Beta{}, inputErr("sd", RulePositive, "sd %v squared underflows to 0", sd)
 	}
 	if !(v < m*(1-m)) {
-		return Beta{}, inputErr("sd", RuleVarianceFeasible, "variance %v, m(1-m) = %v", v, m*(1-m))
+		return Beta{}, inputErr("sd", RuleVarianceFeasible, "variance %.6g, m(1-m) = %.6g", v, m*(1-m))
 	}
 	k := m*(1-m)/v - 1
 	d := Beta{Alpha: m * k, Beta: (1 - m) * k}

@@ -1,9 +1,11 @@
 package web
 
 import (
+	"errors"
 	"fmt"
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -110,6 +112,9 @@ type quickView struct {
 	Results   []quickResult
 	AgreeForm *Form
 	Recorded  recordedData // the chosen question's study data
+	// Unavailable says why one of the interval's two methods cannot make
+	// a Beta when the other can (readQuick).
+	Unavailable []string
 }
 
 func (s *Server) quickPriors(w http.ResponseWriter, r *http.Request) {
@@ -143,7 +148,7 @@ func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws work
 	}
 	status := http.StatusOK
 	if len(f.Values) > 0 && len(v.Questions) > 0 {
-		v.Question, v.Results = readQuick(f, v.Questions)
+		v.Question, v.Results, v.Unavailable = readQuick(f, v.Questions)
 	}
 	if v.Question != nil {
 		if v.Recorded, err = s.recordedFor(r.Context(), ws, *v.Question); err != nil {
@@ -160,8 +165,12 @@ func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws work
 }
 
 // readQuick reads the quick-priors form: the question (its scale) and the
-// construction; for a central interval both methods.
-func readQuick(f *Form, qs []workshop.Question) (*workshop.Question, []quickResult) {
+// construction; for a central interval both methods. When one of the two
+// cannot make a Beta (the moment match of a wide interval breaks the
+// moments' rule, where the exact quantile match still has a Beta) the
+// other is shown, with a note saying why the first is missing; only when
+// none can is the form refused.
+func readQuick(f *Form, qs []workshop.Question) (*workshop.Question, []quickResult, []string) {
 	ids := make([]string, len(qs))
 	for i, q := range qs {
 		ids[i] = strconv.FormatInt(q.ID, 10)
@@ -175,23 +184,49 @@ func readQuick(f *Form, qs []workshop.Question) (*workshop.Question, []quickResu
 	}
 	method := f.Choice(fieldConstruction, "", append([]string{quickInterval}, constructionMethods...)...)
 	if q == nil || !f.OK() {
-		return q, nil
+		return q, nil, nil
 	}
 	methods := []elicit.ConstructionMethod{elicit.ConstructionMethod(method)}
 	if method == quickInterval {
 		methods = []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles}
 	}
 	var out []quickResult
+	var refused []error
+	var notes []string
 	for _, m := range methods {
-		c, ok := construct(f, constructionInput(f, *q, m))
-		if !ok {
-			return q, nil
+		in := constructionInput(f, *q, m)
+		if !f.OK() {
+			return q, nil, nil
+		}
+		c, err := elicit.Construct(in)
+		if err != nil {
+			refused = append(refused, err)
+			notes = append(notes, methodTitle(m)+": no Beta from this interval. "+refusalWords(err))
+			continue
 		}
 		out = append(out, quickResult{Title: methodTitle(m), Construction: c, Worth: elicit.Worth(c.Dist.Beta), Method: string(m),
 			Picture: chart.PanelView{ID: "quick-" + string(m), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper,
 				Curves: []chart.Curve{{Label: methodTitle(m), Role: chart.RoleAgreed, Dist: c.Dist}}}})
 	}
-	return q, out
+	if len(out) == 0 {
+		f.Fail(refused[0], constructionAliases)
+		return q, nil, nil
+	}
+	return q, out, notes
+}
+
+// refusalWords is elicit's refusal as a sentence: its rule, and its
+// detail in brackets.
+func refusalWords(err error) string {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err.Error()
+	}
+	s := string(ie.Rule)
+	if ie.Detail != "" {
+		s += " (" + ie.Detail + ")"
+	}
+	return strings.ToUpper(s[:1]) + s[1:] + "."
 }
 
 // comparisonPicture overlays the interval's two methods.
@@ -249,7 +284,7 @@ func (s *Server) agreeQuickPrior(w http.ResponseWriter, r *http.Request) {
 		s.notFound(w, r)
 		return
 	}
-	q, results := readQuick(f, targets)
+	q, results, _ := readQuick(f, targets)
 	rationale := f.Text("rationale", input.MaxLongText, true)
 	if ws.Open && !f.Checked("confirm_open") {
 		f.set("confirm_open", openRoundWarning(ws))

@@ -171,3 +171,45 @@ func TestConstructionRecordedAsTheAgreedPrior(t *testing.T) {
 		t.Fatalf("from the panel: %+v", cur)
 	}
 }
+
+// TestQuickIntervalWhenOnlyTheQuantileMatchExists: "between 1% and 90%,
+// 50% sure" has no moment match (its midpoint and half-width / z give
+// sd² above m(1 − m)), but an exact quantile match does: Beta(0.19534,
+// 0.26514), as `parley prior` gives by default (R 4.2: optim over qbeta
+// at 0.25 and 0.75 gives 0.1953428, 0.2651380). The page refused the
+// whole interval beside the high end; it now shows the quantile match,
+// says why the moment match is missing, and records it.
+func TestQuickIntervalWhenOnlyTheQuantileMatchExists(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := strconv.FormatInt(qs[0].ID, 10)
+	res, body := h.get(quickPriorsPath(ws.ID) + "?question=" + q + "&construction=interval&c_low=0.01&c_high=0.9&c_coverage=0.5")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("status %d, want 200", res.StatusCode)
+	}
+	for _, want := range []string{
+		"Beta(0.1953, 0.2651)", // R: 0.1953428, 0.2651380
+		"Central interval, moment match: no Beta from this interval. Variance must be below m(1-m)",
+		`name="construction" value="interval_quantiles"`,
+		"variance 0.435281, m(1-m) = 0.247975)", // six figures, not 0.4352806017203691
+	} {
+		if !strings.Contains(body, want) && !strings.Contains(body, htmlEscape(want)) {
+			t.Errorf("page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, `value="interval_moments">Record`) || hasFieldError(body, "c_high") {
+		t.Error("the moment match is offered for recording, or the interval is refused")
+	}
+	priors := func() int {
+		ps, err := h.db.AgreedPriors(context.Background(), ws.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return len(ps)
+	}
+	before := priors()
+	res, _ = h.post(quickPriorsPath(ws.ID)+"/agree", url.Values{"question": {q}, "construction": {"interval_quantiles"}, "c_low": {"0.01"},
+		"c_high": {"0.9"}, "c_coverage": {"0.5"}, "rationale": {"Wide on purpose (invented)."}, "confirm_open": {"on"}})
+	if res.StatusCode != http.StatusSeeOther || priors() != before+1 {
+		t.Errorf("recording the quantile match: status %d", res.StatusCode)
+	}
+}
