@@ -250,7 +250,10 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	g := newDeviceRig(t)
 	axe := axeSource(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
+	// About thirty pages at four widths, each checked for layout and
+	// twice by axe-core: some 90 s on an idle machine, and up to three
+	// times that beside the other packages' tests under -race.
+	br := startBrowserFor(t, 2*browserTimeout)
 	fac := br.person("facilitator")
 	signIn(t, g.site, fac)
 	carmen := br.person("Carmen (on a phone)")

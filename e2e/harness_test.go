@@ -94,7 +94,15 @@ type browser struct {
 // test, loudly, when chromium is missing.
 func startBrowser(t *testing.T) *browser {
 	t.Helper()
-	return &browser{t: t, root: browsertest.Start(t, browserTimeout, desktopWidth, desktopHeight)}
+	return startBrowserFor(t, browserTimeout)
+}
+
+// startBrowserFor is startBrowser for a test that walks many pages, whose
+// browser may live longer; each step keeps stepTimeout, which is what
+// stops a hung page.
+func startBrowserFor(t *testing.T, life time.Duration) *browser {
+	t.Helper()
+	return &browser{t: t, root: browsertest.Start(t, life, desktopWidth, desktopHeight)}
 }
 
 // person is one participant's browser context and tab.
