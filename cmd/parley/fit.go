@@ -30,6 +30,7 @@ type fitOutput struct {
 	SD           float64     `json:"sd"`
 	Warnings     []string    `json:"warnings"`
 	WarningCodes []string    `json:"warning_codes"`
+	Caution      string      `json:"caution"`
 }
 
 // percentiles are values at the probabilities 0.05, 0.5 and 0.95.
@@ -88,7 +89,7 @@ func fitCommand(probsArg, valuesArg, lowerArg, upperArg, format string) (fitOutp
 	if err != nil {
 		return fitOutput{}, err
 	}
-	out := fitOutput{
+	out := fitOutput{Caution: cautionJSON,
 		Alpha: f.Dist.Alpha, Beta: f.Dist.Beta.Beta, Lower: f.Dist.Lower, Upper: f.Dist.Upper,
 		SSE: f.SSE, Probs: f.Probs, Values: f.Stated, Fitted: f.Fitted, ProbErrors: f.ProbErrors,
 		MaxProbError: f.MaxProbError,

@@ -19,7 +19,7 @@ import (
 // reads, in a form or on the command line: plain decimals only, no NaN,
 // Inf, hex or underscores.
 
-// cautionJSON is the caution the JSON of prior, plan and update carries
+// cautionJSON is the caution the JSON of prior, plan, update, fit and pool carries
 // (key "caution"): their numbers are often passed on without the text
 // around them, as the priors CSV's rows are.
 const cautionJSON = "An elicited prior is documented judgement, not data. Review it, test how sensitive decisions are to it, and defer to your field's own guidance and regulators where harm to people, safety or the environment is at stake."

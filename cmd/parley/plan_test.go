@@ -399,16 +399,22 @@ func TestPlanSaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
 	}
 }
 
-// TestJSONCarriesTheCaution: the text of prior, plan and update ends with
-// the caution on elicited priors, but their JSON, the form a script
-// passes on, carried none. Each now has the key "caution".
+// TestJSONCarriesTheCaution: the text of prior, plan, update, fit and
+// pool ends with the caution on elicited priors, but their JSON, the form
+// a script passes on, carried none. Each now has the key "caution".
 func TestJSONCarriesTheCaution(t *testing.T) {
 	for _, args := range [][]string{
 		{"prior", "--interval", "0.03,0.12", "--coverage", "0.9"},
 		{"plan", "--alpha", "2", "--beta", "38", "--trials", "20"},
 		{"update", "--alpha", "2", "--beta", "38", "--successes", "1", "--trials", "20"},
+		{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12"},
+		{"pool"},
 	} {
-		code, out, errOut := runCLI(t, "", append(args, "--format", "json")...)
+		stdin := ""
+		if args[0] == "pool" {
+			stdin = `{"experts":[{"alpha":2,"beta":38},{"alpha":3,"beta":30}],"probs":[0.5]}`
+		}
+		code, out, errOut := runCLI(t, stdin, append(args, "--format", "json")...)
 		if code != 0 {
 			t.Fatalf("%v: exit %d: %s", args, code, errOut)
 		}

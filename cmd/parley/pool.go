@@ -72,6 +72,7 @@ type poolOutput struct {
 	BetaExact bool     `json:"beta_exact"`
 	BetaFit   *betaFit `json:"beta_fit"`
 	Warnings  []string `json:"warnings"`
+	Caution   string   `json:"caution"`
 }
 
 type betaFit struct {
@@ -220,7 +221,7 @@ func poolResult(in poolInput) (poolOutput, error) {
 	if err != nil {
 		return poolOutput{}, err
 	}
-	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}}
+	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}, Caution: cautionJSON}
 	switch in.Method {
 	case "", "linear":
 		out.Method = "linear"
