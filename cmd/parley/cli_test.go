@@ -642,3 +642,17 @@ func TestTextOutputKeepsValuesOffTheBounds(t *testing.T) {
 		t.Errorf("update text writes an interval end short of 1 as 1:\n%s", out)
 	}
 }
+
+// plan's text writes the predictive count's mean and sd in plain digits,
+// as the counts beside it: a Beta(2, 38) prior over 500,000 trials
+// predicts a mean of 500000 × 2/40 = 25000 successes (the Beta-binomial
+// mean, n·α/(α+β)), which %.4g wrote as 2.5e+04.
+func TestPlanTextWritesCountsInPlainDigits(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "2", "--beta", "38", "--trials", "500000")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	if !strings.Contains(out, "in 500000 trials: mean 25000, sd ") || strings.Contains(out, "e+0") {
+		t.Errorf("plan text:\n%s", out)
+	}
+}

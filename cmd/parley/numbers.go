@@ -94,6 +94,16 @@ func writeJSON(w io.Writer, v any) error {
 // that it is just above 1.
 func shape(x float64) string { return strconv.FormatFloat(x, 'g', elicit.ShapeDigits(x, 6), 64) }
 
+// plainSig4 writes a count's mean or sd to four significant figures in
+// plain digits, as the counts beside it are: 25000, not %.4g's 2.5e+04.
+func plainSig4(x float64) string {
+	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', 3, 64), 64)
+	if err != nil {
+		return strconv.FormatFloat(x, 'g', 4, 64)
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
 // within writes a value on the scale [lower, upper] to six significant
 // figures, or as many more as it takes to stay on its own side of each
 // bound: a stated 0.9999999999 is not "1", which is the bound itself.

@@ -326,8 +326,8 @@ func writePlanText(w io.Writer, o planOutput) error {
 	fmt.Fprintf(&b, "prior Beta(%s, %s): mean %.4g, sd %.4g; %s\n", shape(o.Alpha), shape(o.Beta), o.PriorMean, o.PriorSD, o.Worth)
 	fmt.Fprintf(&b, "a study of %s gets %s%% of the weight in the posterior mean\n", countOf(o.Trials, "trial", "trials"), elicit.PercentText(o.DataShare, 3))
 	q := o.PredictivePercentiles
-	fmt.Fprintf(&b, "prior predictive number of successes in %s: mean %.4g, sd %.4g; 5%% %d, 50%% %d, 95%% %d\n",
-		countOf(o.Trials, "trial", "trials"), o.PredictiveMean, o.PredictiveSD, q.Q05, q.Q50, q.Q95)
+	fmt.Fprintf(&b, "prior predictive number of successes in %s: mean %s, sd %s; 5%% %d, 50%% %d, 95%% %d\n",
+		countOf(o.Trials, "trial", "trials"), plainSig4(o.PredictiveMean), plainSig4(o.PredictiveSD), q.Q05, q.Q50, q.Q95)
 	if len(o.Predictive) <= 31 {
 		fmt.Fprintf(&b, "  %9s  %s\n", "successes", "probability")
 		for x, p := range o.Predictive {
