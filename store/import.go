@@ -279,8 +279,8 @@ func (imp importer) prior(ap workshop.AgreedPrior) error {
 }
 
 // remapDetail rewrites the expert and revision IDs in an event's detail:
-// an "expert_id" or "revision_id" number and the keys of a "by_expert"
-// object. A detail whose IDs do not change, or that is not a JSON object,
+// an "expert_id" or "revision_id" number, the numbers of a "revisions"
+// list and the keys of a "by_expert" object. A detail whose IDs do not change, or that is not a JSON object,
 // is kept byte for byte.
 func remapDetail(detail string, experts, revisions map[int64]int64) string {
 	var m map[string]json.RawMessage
@@ -299,6 +299,19 @@ func remapDetail(detail string, experts, revisions map[int64]int64) string {
 				m[key] = json.RawMessage(strconv.FormatInt(n, 10))
 				changed = true
 			}
+		}
+	}
+	if raw, ok := m["revisions"]; ok { // an answer sheet's (workshop.SheetImport)
+		var list []int64
+		if json.Unmarshal(raw, &list) == nil {
+			for i, id := range list {
+				if n, ok := revisions[id]; ok && n != id {
+					list[i] = n
+					changed = true
+				}
+			}
+			b, _ := json.Marshal(list)
+			m["revisions"] = b
 		}
 	}
 	if raw, ok := m["by_expert"]; ok {

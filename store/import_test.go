@@ -240,6 +240,7 @@ func TestRemapDetail(t *testing.T) {
 		{`{"expert_id":3,"revision_id":3}`, `{"expert_id":30,"revision_id":7}`},
 		{`{"expert_id":4}`, `{"expert_id":4}`},
 		{`{"scheme":"custom","by_expert":{"3":2,"4":1}}`, `{"by_expert":{"30":2,"4":1},"scheme":"custom"}`},
+		{`{"sha256":"ab","rows":[2,3],"channel":"file","revisions":[3,9]}`, `{"channel":"file","revisions":[7,90],"rows":[2,3],"sha256":"ab"}`},
 		{`{"round":2}`, `{"round":2}`},
 		{`not json`, `not json`},
 		{``, ``},

@@ -160,11 +160,17 @@ func (db *DB) SaveImportedRevisions(ctx context.Context, workshopID int64, rs []
 	if len(imp.Rows) != len(rs) {
 		return fmt.Errorf("store: %d revisions from %d rows of a sheet", len(rs), len(imp.Rows))
 	}
-	detail, err := json.Marshal(imp)
-	if err != nil {
-		return fmt.Errorf("store: answer sheet: %w", err)
-	}
 	return db.saveRevisions(ctx, rs, func(ctx context.Context, tx *sql.Tx, at time.Time) error {
+		// The event names the judgements it saved, so each can say
+		// which file and row it came from (workshop.SheetSources).
+		imp.Revisions = make([]int64, len(rs))
+		for i := range rs {
+			imp.Revisions[i] = rs[i].ID
+		}
+		detail, err := json.Marshal(imp)
+		if err != nil {
+			return fmt.Errorf("store: answer sheet: %w", err)
+		}
 		return insertEvent(ctx, tx, workshop.Event{WorkshopID: workshopID, Kind: workshop.EventAnswersImported, At: at, Detail: string(detail)})
 	})
 }

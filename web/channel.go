@@ -1,6 +1,12 @@
 package web
 
-import "github.com/parley-elicit/parley/elicit/workshop"
+import (
+	"context"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
 
 // channelLabel names a channel for the facilitator: how a judgement they
 // entered reached them.
@@ -55,4 +61,49 @@ func provenance(rv workshop.Revision) string {
 		return "facilitator, " + channelRecorded(rv.Channel)
 	}
 	return "expert"
+}
+
+// provenanceFrom is provenance with, for a judgement imported from an
+// answer sheet, the file and row it came from: "facilitator, from a
+// paper form (answer sheet answers.csv, row 3)". Without the row, a
+// reviewer could not tell which file of several, or which row of it,
+// the judgement was read from.
+func provenanceFrom(rv workshop.Revision, sheets map[int64]workshop.SheetSource) string {
+	p := provenance(rv)
+	if src, ok := sheets[rv.ID]; ok && rv.EnteredBy == workshop.ByFacilitator {
+		p += " (" + sheetRowLabel(src) + ")"
+	}
+	return p
+}
+
+// sheetRowLabel names a sheet's row: "answer sheet answers.csv, row 3",
+// or "a pasted answer sheet, row 3".
+func sheetRowLabel(src workshop.SheetSource) string {
+	sheet := "a pasted answer sheet"
+	if src.Name != "" {
+		sheet = "answer sheet " + src.Name
+	}
+	return sheet + ", row " + strconv.Itoa(src.Row)
+}
+
+// sheetSources reads which of a workshop's judgements came from which
+// answer sheet and row (workshop.SheetSources). all are the workshop's
+// revisions when the caller has them; otherwise they are read when an
+// older record's events need them.
+func (s *Server) sheetSources(ctx context.Context, wsID int64, all []workshop.Revision) (map[int64]workshop.SheetSource, error) {
+	evs, err := s.store.Events(ctx, wsID)
+	if err != nil {
+		return nil, err
+	}
+	if all == nil {
+		for _, ev := range evs {
+			if ev.Kind == workshop.EventAnswersImported && !strings.Contains(ev.Detail, `"revisions"`) {
+				if all, err = s.store.Revisions(ctx, wsID); err != nil {
+					return nil, err
+				}
+				break
+			}
+		}
+	}
+	return workshop.SheetSources(evs, all), nil
 }

@@ -36,6 +36,7 @@ type entryView struct {
 	History  []workshop.Revision // the expert's revisions of the question, newest first
 	Saved    bool
 	Back     string // the question's panel
+	Sheets   map[int64]workshop.SheetSource
 }
 
 func entryPath(ws, q, e int64) string {
@@ -129,6 +130,11 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 }
 
 func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int, v entryView) {
+	var err error
+	if v.Sheets, err = s.sheetSources(r.Context(), v.Workshop.ID, nil); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	m := facilitatorMeta(v.Workshop, "Q"+strconv.Itoa(v.Question.Position)+" for "+v.Expert.Name, "overview")
 	m.Scripts = []string{"/static/preview.js", "/static/chips.js"}
 	s.renderPage(w, r, status, m, entryPageView(v))
@@ -260,6 +266,7 @@ type expertView struct {
 	Workshop workshop.Workshop
 	Expert   workshop.Expert
 	Rows     []expertViewRow
+	Sheets   map[int64]workshop.SheetSource
 }
 
 type expertViewRow struct {
@@ -288,6 +295,10 @@ func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := expertView{Workshop: ws, Expert: e}
+	if v.Sheets, err = s.sheetSources(r.Context(), ws.ID, nil); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	for _, q := range qs {
 		if q.Retired {
 			continue

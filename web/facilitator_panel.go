@@ -215,6 +215,8 @@ type panelView struct {
 	WithholdForm *Form
 	Strength     strengthView // calibration.go: warnings about performance weights
 	Recorded     recordedData // study data the agreed prior is updated with
+	// Sheets says which answer sheet and row a judgement came from.
+	Sheets map[int64]workshop.SheetSource
 }
 
 // reasoned are the question's revisions that carry a reason, oldest first.
@@ -298,6 +300,10 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
 	v.Strength = panelStrength(d)
 	if v.Recorded, err = s.recordedFor(r.Context(), ws, q); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if v.Sheets, err = s.sheetSources(r.Context(), ws.ID, d.Revisions); err != nil {
 		s.fail(w, r, err)
 		return
 	}

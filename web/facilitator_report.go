@@ -16,6 +16,7 @@ type reportView struct {
 	Record  record.Record
 	Experts map[int64]workshop.Expert
 	Charts  map[int64]picture
+	Sheets  map[int64]workshop.SheetSource // which answer sheet and row a judgement came from
 }
 
 func (s *Server) report(w http.ResponseWriter, r *http.Request) {
@@ -32,6 +33,11 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 	for _, e := range rec.Experts {
 		v.Experts[e.ID] = e
 	}
+	revs := make([]workshop.Revision, len(rec.Revisions))
+	for i, rv := range rec.Revisions {
+		revs[i] = rv.Revision
+	}
+	v.Sheets = workshop.SheetSources(rec.Events, revs)
 	for _, q := range rec.Questions {
 		v.Charts[q.ID] = reportChart(q, v.Experts, rec.Weights.Scheme)
 	}
@@ -72,4 +78,15 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme wo
 		summary = append(summary, chart.Curve{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: a.Dist})
 	}
 	return panelPicture(frame, names, dists, summary)
+}
+
+// reportProvenance is a facilitator's entry as the report's history says
+// it beside the expert's name: "entered by the facilitator, from a paper
+// form; answer sheet answers.csv, row 3".
+func reportProvenance(rv workshop.Revision, sheets map[int64]workshop.SheetSource) string {
+	p := "entered by the " + provenance(rv)
+	if src, ok := sheets[rv.ID]; ok {
+		p += "; " + sheetRowLabel(src)
+	}
+	return p
 }

@@ -235,8 +235,8 @@ const (
 
 // SheetImport is what the record keeps of an answer sheet whose rows the
 // facilitator saved as judgements (an upload or parley import-answers):
-// enough to tell which file they came from and which row is which. The
-// judgements are the revisions saved at the event's time.
+// enough to tell which file they came from and which row is which
+// (SheetSources).
 type SheetImport struct {
 	// SHA256 is the hex SHA-256 of the sheet's bytes as Parley received
 	// them, so the file kept beside the record can be checked against it.
@@ -248,6 +248,10 @@ type SheetImport struct {
 	// the header being row 1) of the judgements, in the order saved.
 	Rows    []int   `json:"rows"`
 	Channel Channel `json:"channel"`
+	// Revisions are the IDs of the judgements saved, in the order of
+	// Rows; absent in records older than this field, whose judgements
+	// are the facilitator's revisions saved at the event's time.
+	Revisions []int64 `json:"revisions,omitempty"`
 }
 
 // EventKinds lists every event kind, in the order they were introduced.
