@@ -27,7 +27,10 @@ import (
 // copy is sent to the same address without running again. A post that
 // did not send the browser on (a refused form, a failure) is forgotten,
 // so sending it again runs it again. Values that differ, such as a form
-// corrected after going back, are a new post. A post without the key (a
+// corrected after going back, are a new post; and once another post to
+// the same address is done, an earlier one is forgotten, so that values
+// sent again after others (A, then B, then A again from a page kept by
+// the back button) are saved, not taken for a retry of the first. A post without the key (a
 // script, a page from before this version) runs as before. Keys are held
 // in memory for onceLife; a restart forgets them.
 
@@ -59,42 +62,46 @@ func onceField() templ.Component {
 type sentOnce struct {
 	mu    sync.Mutex
 	posts map[[sha256.Size]byte]*oncePost
+	// last is the post last done at each address (at most one per post
+	// held, so bounded as posts are).
+	last map[string][sha256.Size]byte
 }
 
 type oncePost struct {
 	done     chan struct{} // closed when the first copy has finished
+	path     string        // the address posted to
 	location string        // where it sent the browser; "" when it did not
 	expires  time.Time     // set when done
 }
 
 func newSentOnce() *sentOnce {
-	return &sentOnce{posts: map[[sha256.Size]byte]*oncePost{}}
+	return &sentOnce{posts: map[[sha256.Size]byte]*oncePost{}, last: map[string][sha256.Size]byte{}}
 }
 
 // begin returns the post remembered under id, and first when this call
 // made it (the caller runs the handler and calls end). remembered is
 // false when no more posts can be held: the caller runs the handler and
 // does not call end.
-func (o *sentOnce) begin(id [sha256.Size]byte, now time.Time) (p *oncePost, first, remembered bool) {
+func (o *sentOnce) begin(id [sha256.Size]byte, path string, now time.Time) (p *oncePost, first, remembered bool) {
 	o.mu.Lock()
 	defer o.mu.Unlock()
 	if p, ok := o.posts[id]; ok {
 		if p.expires.IsZero() || now.Before(p.expires) {
 			return p, false, true
 		}
-		delete(o.posts, id)
+		o.forget(id, p)
 	}
 	if len(o.posts) >= onceMax {
 		for k, p := range o.posts {
 			if !p.expires.IsZero() && !now.Before(p.expires) {
-				delete(o.posts, k)
+				o.forget(k, p)
 			}
 		}
 		if len(o.posts) >= onceMax {
 			return nil, true, false
 		}
 	}
-	p = &oncePost{done: make(chan struct{})}
+	p = &oncePost{done: make(chan struct{}), path: path}
 	o.posts[id] = p
 	return p, true, true
 }
@@ -107,9 +114,23 @@ func (o *sentOnce) end(id [sha256.Size]byte, p *oncePost, location string, now t
 		delete(o.posts, id)
 	} else {
 		p.location, p.expires = location, now.Add(onceLife)
+		if prev, ok := o.last[p.path]; ok && prev != id {
+			if q, ok := o.posts[prev]; ok && !q.expires.IsZero() {
+				delete(o.posts, prev)
+			}
+		}
+		o.last[p.path] = id
 	}
 	o.mu.Unlock()
 	close(p.done)
+}
+
+// forget drops a post that was done, and its address's note of it.
+func (o *sentOnce) forget(id [sha256.Size]byte, p *oncePost) {
+	delete(o.posts, id)
+	if o.last[p.path] == id {
+		delete(o.last, p.path)
+	}
 }
 
 // onceID names a post: its address, its key and all its other values.
@@ -148,7 +169,7 @@ func (s *Server) sendOnce(next http.Handler) http.Handler {
 			return
 		}
 		id := onceID(r, key)
-		p, first, remembered := s.once.begin(id, s.now())
+		p, first, remembered := s.once.begin(id, r.URL.Path, s.now())
 		if !remembered {
 			next.ServeHTTP(w, r)
 			return

@@ -111,6 +111,31 @@ func TestStudyDataSentTwiceIsRecordedOnce(t *testing.T) {
 	}
 }
 
+// Values sent again after others are saved again: a facilitator who
+// records A, then B, then goes back to the page that held A and sends it
+// is recording A anew, not retrying the first post. The first post used
+// to be remembered for ten minutes, so the third was sent to the study
+// page without running, and the page said nothing of it not being saved.
+func TestAFormSentAgainAfterAnotherRuns(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, page := h.get(sp)
+	key := keyOf(t, page, sp+"/data")
+	a := url.Values{"successes": {"3"}, "trials": {"40"}, "source": {"Site log (invented)"},
+		"observed_on": {"2026-03-31"}, onceName: {key}}
+	b := url.Values{"successes": {"5"}, "trials": {"40"}, "source": {"Site log (invented)"},
+		"observed_on": {"2026-03-31"}, onceName: {key}}
+	before := studyBatches(t, h, ws.ID)
+	for _, form := range []url.Values{a, a, b, b, a, a} {
+		if res, body := h.post(sp+"/data", form); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record data: %d %s", res.StatusCode, body)
+		}
+	}
+	if n := studyBatches(t, h, ws.ID) - before; n != 3 {
+		t.Fatalf("A twice, B twice, A twice: %d batches recorded, want 3 (each pair once)", n)
+	}
+}
+
 // A refused post is not remembered: the same form sent again is checked
 // again, and once corrected it is saved.
 func TestRefusedPostRunsAgain(t *testing.T) {
