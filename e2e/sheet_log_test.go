@@ -13,7 +13,8 @@ import (
 
 // TestSheetImportInTheLogInBrowser: an imported answer sheet's line in
 // the decision log and the report, with its file's 64-figure SHA-256,
-// fits a phone's screen and a laptop's without scrolling sideways.
+// fits a phone's screen and a laptop's without scrolling sideways; so
+// does the upload page with the columns of the demo's questions.
 func TestSheetImportInTheLogInBrowser(t *testing.T) {
 	site := startSite(t)
 	ctx := context.Background()
@@ -48,5 +49,12 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			fits(t, fac, page, width)
 			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
 		}
+		// The upload page lists each question's columns and a header.
+		if st := fac.open(base + "/answers/import"); st != http.StatusOK {
+			t.Fatalf("upload page: %d", st)
+		}
+		fac.sees("upload page", "This workshop's columns", "q25,q50,q75", "expert,question,q05,q50,q95,q25,q75,reason")
+		fits(t, fac, "upload page", width)
+		shots.take(fac, "sheet-upload-"+strconv.FormatInt(width, 10))
 	}
 }

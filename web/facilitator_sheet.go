@@ -42,6 +42,25 @@ type sheetView struct {
 	Rows     []sheetRow
 	Key      string
 	Channel  workshop.Channel
+	// Questions are the workshop's questions that take answers, whose
+	// columns the upload page lists.
+	Questions []workshop.Question
+}
+
+// sheetHeader is a header naming every column the questions use, in the
+// order of the questions, for a sheet to start from.
+func sheetHeader(qs []workshop.Question) string {
+	cols := []string{"expert", "question"}
+	seen := map[string]bool{}
+	for _, q := range qs {
+		for _, c := range sheetColumns(q) {
+			if !seen[c] {
+				seen[c] = true
+				cols = append(cols, c)
+			}
+		}
+	}
+	return strings.Join(append(cols, "reason"), ",")
 }
 
 func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
@@ -57,6 +76,17 @@ func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
 }
 
 func (s *Server) renderSheet(w http.ResponseWriter, r *http.Request, status int, v sheetView) {
+	qs, err := s.store.Questions(r.Context(), v.Workshop.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v.Questions = nil
+	for _, q := range qs {
+		if !q.Retired && !q.Frozen() {
+			v.Questions = append(v.Questions, q)
+		}
+	}
 	s.renderPage(w, r, status, facilitatorMeta(v.Workshop, "Import judgements", "overview"), sheetPage(v))
 }
 

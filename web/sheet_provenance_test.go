@@ -12,6 +12,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -83,5 +84,67 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 	src := workshop.SheetSources(evs, nil)
 	if len(src) != 3 {
 		t.Fatalf("the events name %d judgements, want 3: %v", len(src), src)
+	}
+}
+
+// The upload page names the columns of this workshop's questions, and a
+// header with all of them. It said "(here 5%, 50% and 95%)" whatever the
+// questions asked, so a facilitator with a tertile question or quartiles
+// built a sheet whose every row was refused.
+func TestSheetPageNamesThisWorkshopsColumns(t *testing.T) {
+	g := newSheetRig(t)
+	r, body := g.h.get(sheetPath(g.ws.ID))
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("upload page: %d", r.StatusCode)
+	}
+	text := html.UnescapeString(body)
+	if strings.Contains(text, "here 5%, 50% and 95%") {
+		t.Error("the page still says every quantile question asks 5%, 50% and 95%")
+	}
+	for _, want := range []string{
+		"<code>q33,q50,q67</code>",
+		"<code>lowest,highest,best,confidence</code>",
+		"<code>bin1,bin2,bin3,bin4</code>",
+		"expert,question,q05,q50,q95,lowest,highest,best,confidence,bin1,bin2,bin3,bin4,q33,q67,reason",
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("the upload page does not show %s", want)
+		}
+	}
+	// The header the page gives reads as a sheet of this workshop.
+	if _, err := ReadAnswerSheet(strings.NewReader(sheetHeader(g.qs)+"\nAda Quell,Q4,,0.15,,,,,,,,,,0.1,0.2,\n"), g.qs, g.experts); err != nil {
+		t.Errorf("a sheet under the page's header: %v", err)
+	}
+}
+
+// A sheet pasted into the upload page is not cut by the browser. Its
+// text area had the 4,000-character maxlength of a reason, and a browser
+// cuts a longer paste there without a word: a sheet of some sixty rows
+// lost its last ones, and a row cut inside a value ("0.12" to "0.1")
+// read as a good row with a wrong number. The server takes a pasted
+// sheet of any length up to the sheet's 1 MiB and says when it is longer.
+func TestPastedSheetIsNotCutByTheBrowser(t *testing.T) {
+	g := newSheetRig(t)
+	_, body := g.h.get(sheetPath(g.ws.ID))
+	area := regexp.MustCompile(`<textarea[^>]*name="sheet"[^>]*>`).FindString(body)
+	if area == "" {
+		t.Fatal("no text area for a pasted sheet")
+	}
+	if strings.Contains(area, "maxlength") {
+		t.Errorf("the pasted sheet's text area cuts a paste: %s", area)
+	}
+	// A pasted sheet longer than a reason is read whole.
+	var sb strings.Builder
+	sb.WriteString("expert,question,q05,q50,q95,reason\n")
+	for range 40 {
+		sb.WriteString("# " + strings.Repeat("a comment line of an invented sheet ", 3) + "\n")
+	}
+	sb.WriteString("Ada Quell,Q1,0.02,0.06,0.15,\n")
+	if sb.Len() <= input.MaxLongText {
+		t.Fatalf("the sheet is %d characters, not over a reason's %d", sb.Len(), input.MaxLongText)
+	}
+	r, page := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {sb.String()}, "channel": {"file"}})
+	if r.StatusCode != http.StatusOK || !strings.Contains(page, "Nothing is saved yet") {
+		t.Fatalf("a long pasted sheet: %d", r.StatusCode)
 	}
 }
