@@ -101,10 +101,34 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent, sc.speaker())
 		}
 	}
-	v := s.entryView(sc, own, typed, "", string(workshop.ChannelInPerson))
+	channel, err := s.lastChannel(r, sc.e.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	v := s.entryView(sc, own, typed, "", string(channel))
 	v.Form.Preview = preview
 	v.Saved = r.URL.Query().Get("saved") == "1"
 	s.renderEntry(w, r, http.StatusOK, v)
+}
+
+// lastChannel is how the facilitator's last entry for the expert reached
+// them, the likeliest way for the next; "" when they have entered none,
+// so the form asks. It used to offer "said in the session" to every
+// expert, and an entry taken by phone and saved without changing it was
+// recorded, untruly, as said in the room.
+func (s *Server) lastChannel(r *http.Request, expertID int64) (workshop.Channel, error) {
+	revs, err := s.store.ExpertRevisions(r.Context(), expertID)
+	if err != nil {
+		return "", err
+	}
+	var last workshop.Revision
+	for _, rv := range revs {
+		if rv.EnteredBy == workshop.ByFacilitator && (last.ID == 0 || rv.At.After(last.At) || (rv.At.Equal(last.At) && rv.ID > last.ID)) {
+			last = rv
+		}
+	}
+	return last.Channel, nil
 }
 
 // entryView lays out the page around the form with the typed values.
@@ -146,7 +170,12 @@ func readEntry(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, works
 	for i, c := range workshop.Channels {
 		names[i] = string(c)
 	}
-	channel := workshop.Channel(f.Choice("channel", "", names...))
+	var channel workshop.Channel
+	if f.Value("channel") == "" {
+		f.set("channel", "choose how the judgement reached you; the record keeps it")
+	} else {
+		channel = workshop.Channel(f.Choice("channel", "", names...))
+	}
 	a, fit, ok := readAnswer(q, f)
 	return a, fit, channel, ok && f.OK()
 }
@@ -157,7 +186,9 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	a, fit, _, ok := readEntry(sc.q, f)
+	// The channel is asked for at the save; the preview draws the values.
+	a, fit, ok := readAnswer(sc.q, f)
+	ok = ok && f.OK()
 	status := http.StatusOK
 	var p *previewView
 	if ok {
