@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/chromedp/chromedp"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 )
@@ -56,5 +57,11 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 		fac.sees("upload page", "This workshop's columns", "q25,q50,q75", "expert,question,q05,q50,q95,q25,q75,reason")
 		fits(t, fac, "upload page", width)
 		shots.take(fac, "sheet-upload-"+strconv.FormatInt(width, 10))
+		// Its preview of a row that follows Ines Varga's own answer.
+		fac.fill(`form[enctype="multipart/form-data"]`, "sheet", "expert,question,q05,q50,q95,reason\nInes Varga,Q1,0.01,0.04,0.1,From her paper form of Monday (invented).\n")
+		fac.load("check the sheet", chromedp.Click(chromedp.CSS(`form[enctype="multipart/form-data"] button[type=submit]`)))
+		fac.sees("sheet preview", "Nothing is saved yet", "1 row follows an answer the expert saved themselves", "Ines Varga's own answer of ")
+		fits(t, fac, "sheet preview", width)
+		shots.take(fac, "sheet-preview-"+strconv.FormatInt(width, 10))
 	}
 }

@@ -4,6 +4,7 @@ import (
 	"errors"
 	"io"
 	"net/http"
+	"strconv"
 	"strings"
 	"time"
 
@@ -45,6 +46,31 @@ type sheetView struct {
 	// Questions are the workshop's questions that take answers, whose
 	// columns the upload page lists.
 	Questions []workshop.Question
+	// Replaces holds, by row index, the current answer a row would
+	// follow as the expert's latest, when there is one.
+	Replaces map[int]workshop.Revision
+}
+
+// replacesOwn counts the rows that would follow an answer the expert
+// saved themselves.
+func (v sheetView) replacesOwn() int {
+	n := 0
+	for _, rv := range v.Replaces {
+		if rv.EnteredBy != workshop.ByFacilitator {
+			n++
+		}
+	}
+	return n
+}
+
+// replacedLabel says what a row's judgement follows: "Ada Quell's own
+// answer of 2026-12-03 04:28 UTC (round 1)".
+func replacedLabel(row sheetRow, rv workshop.Revision) string {
+	who := row.Expert.Name + "'s own answer"
+	if rv.EnteredBy == workshop.ByFacilitator {
+		who = "your entry"
+	}
+	return who + " of " + rv.At.UTC().Format(timeLayout) + " (round " + strconv.Itoa(rv.Round) + ")"
 }
 
 // sheetHeader is a header naming every column the questions use, in the
@@ -176,6 +202,20 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 	if err != nil {
 		s.fail(w, r, err)
 		return
+	}
+	revs, err := s.store.Revisions(r.Context(), ws.ID)
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	cur := workshop.Current(revs, nil)
+	for i, row := range rows {
+		if rv, ok := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]; ok {
+			if v.Replaces == nil {
+				v.Replaces = map[int]workshop.Revision{}
+			}
+			v.Replaces[i] = rv
+		}
 	}
 	v.Rows, v.Key = rows, key
 	s.renderSheet(w, r, http.StatusOK, v)

@@ -148,3 +148,38 @@ func TestPastedSheetIsNotCutByTheBrowser(t *testing.T) {
 		t.Fatalf("a long pasted sheet: %d", r.StatusCode)
 	}
 }
+
+// The sheet's preview says which rows would follow an answer the expert
+// saved themselves. A row becomes the expert's current answer, so a
+// paper form written before the expert answered on their own link put
+// the older judgement in its place, and the preview, which showed only
+// the sheet's rows, gave no sign of it.
+func TestSheetPreviewSaysWhatARowFollows(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	ada := g.experts[0]
+	own := workshop.Revision{QuestionID: g.qs[0].ID, ExpertID: ada.ID, Answer: workshop.Answer{Values: []float64{0.03, 0.07, 0.2}}}
+	if err := g.h.db.SaveRevision(ctx, &own); err != nil {
+		t.Fatal(err)
+	}
+	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n"
+	// One row is "This judgement", not "These 1 judgement".
+	if _, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {"expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"}, "channel": {"file"}}); !strings.Contains(body, "This judgement will be saved") {
+		t.Error("a sheet of one row is not 'This judgement'")
+	}
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {sheet}, "channel": {"paper_form"}})
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("preview: %d", r.StatusCode)
+	}
+	text := html.UnescapeString(body)
+	for _, want := range []string{
+		"1 row follows an answer the expert saved themselves",
+		"Ada Quell's own answer of " + own.At.UTC().Format(timeLayout) + " (round 1)",
+		"no answer yet", // Bruno's row
+		"These 2 judgements will be saved",
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("the preview does not say %q", want)
+		}
+	}
+}

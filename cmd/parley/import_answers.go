@@ -105,9 +105,15 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if *dryRun {
 		verb = "would save"
 	}
+	revs, err := db.Revisions(ctx, wid)
+	if err != nil {
+		return fail(stderr, "import-answers", err)
+	}
+	cur := workshop.Current(revs, nil)
 	for _, row := range rows {
-		fmt.Fprintf(stdout, "row %d: %s, Q%d: Beta(%s, %s)%s\n", row.Line, row.Expert.Name, row.Question.Position,
-			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit))
+		fmt.Fprintf(stdout, "row %d: %s, Q%d: Beta(%s, %s)%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
+			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit),
+			followsNote(row.Expert.Name, cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]))
 	}
 	if !*dryRun {
 		if err := web.SaveSheet(ctx, db, ws, rows, ch, file); err != nil {
@@ -134,4 +140,13 @@ func warningsNote(f elicit.Fit) string {
 		s += w.Message
 	}
 	return s
+}
+
+// followsNote says when a row follows an answer the expert saved
+// themselves, which it will replace as their current answer.
+func followsNote(name string, rv workshop.Revision) string {
+	if rv.ID == 0 || rv.EnteredBy == workshop.ByFacilitator {
+		return ""
+	}
+	return fmt.Sprintf(" — follows %s's own answer of %s (round %d)", name, rv.At.UTC().Format("2006-01-02 15:04 UTC"), rv.Round)
 }

@@ -8,6 +8,7 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -192,4 +193,24 @@ func lastImport(t *testing.T, path string, ws int64) *workshop.SheetImport {
 		}
 	}
 	return nil
+}
+
+// The listing says which rows follow an answer the expert saved
+// themselves, as the upload's preview does: each will replace it as the
+// expert's current answer, which a sheet older than that answer should
+// not. A row following the facilitator's own entry says nothing.
+func TestImportAnswersSaysWhatARowFollows(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	w := strconv.FormatInt(ws, 10)
+	sheet := writeSheet(t, "expert,question,q05,q50,q95\nInes,Q2,0.1,0.3,0.6\n")
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run")
+	if code != 0 || !regexp.MustCompile(`row 2: Ines, Q2: Beta\([^)]*\) — follows Ines's own answer of \d{4}-\d\d-\d\d \d\d:\d\d UTC \(round 1\)\n`).MatchString(out) {
+		t.Fatalf("dry run: %d %q %q", code, out, errOut)
+	}
+	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
+		t.Fatalf("import: %d %q %q", code, out, errOut)
+	}
+	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run"); code != 0 || strings.Contains(out, "follows") {
+		t.Fatalf("after the facilitator's entry: %d %q %q", code, out, errOut)
+	}
 }
