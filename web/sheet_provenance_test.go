@@ -3,6 +3,7 @@ package web
 import (
 	"bytes"
 	"context"
+	"encoding/csv"
 	"html"
 	"mime/multipart"
 	"net/http"
@@ -45,8 +46,10 @@ func (g *sheetRig) uploadSheet(t *testing.T, name, text, channel string) {
 // could not tell which file a judgement came from, nor check its row.
 func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 	g := newSheetRig(t)
-	g.uploadSheet(t, "monday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n", "paper_form")
-	g.uploadSheet(t, "tuesday.csv", "expert,question,q05,q50,q95\n# a comment line\nBruno Ferrante,Q1,0.02,0.05,0.12\n", "message")
+	monday := "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n"
+	tuesday := "expert,question,q05,q50,q95\n# a comment line\nBruno Ferrante,Q1,0.02,0.05,0.12\n"
+	g.uploadSheet(t, "monday.csv", monday, "paper_form")
+	g.uploadSheet(t, "tuesday.csv", tuesday, "message")
 	ada, bruno := g.experts[0].ID, g.experts[1].ID
 	q1 := g.qs[0].ID
 	pages := map[string][]string{
@@ -74,6 +77,33 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 			if !strings.Contains(text, want) {
 				t.Errorf("%s does not say %q", path, want)
 			}
+		}
+	}
+	// The CSV of revisions, whole and per question, names them too.
+	for _, path := range []string{workshopPath(g.ws.ID) + "/export.csv", questionPath(g.ws.ID, q1) + "/export.csv"} {
+		r, body := g.h.get(path)
+		if r.StatusCode != http.StatusOK {
+			t.Fatalf("GET %s: %d", path, r.StatusCode)
+		}
+		recs, err := csv.NewReader(strings.NewReader(body)).ReadAll()
+		if err != nil {
+			t.Fatal(err)
+		}
+		col := map[string]int{}
+		for i, h := range recs[0] {
+			col[h] = i
+		}
+		var got []string
+		for _, rec := range recs[1:] {
+			got = append(got, rec[col["expert"]]+" "+rec[col["channel"]]+" "+rec[col["sheet_file"]]+" "+rec[col["sheet_row"]]+" "+rec[col["sheet_sha256"]][:min(8, len(rec[col["sheet_sha256"]]))])
+		}
+		want := []string{
+			"Ada Quell paper_form monday.csv 2 " + SheetFile{Text: monday}.SHA256()[:8],
+			"Bruno Ferrante paper_form monday.csv 3 " + SheetFile{Text: monday}.SHA256()[:8],
+			"Bruno Ferrante message tuesday.csv 3 " + SheetFile{Text: tuesday}.SHA256()[:8],
+		}
+		if strings.Join(got, "\n") != strings.Join(want, "\n") {
+			t.Errorf("%s:\n%s\nwant\n%s", path, strings.Join(got, "\n"), strings.Join(want, "\n"))
 		}
 	}
 	// The record names the revisions each sheet saved.

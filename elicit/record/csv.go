@@ -17,6 +17,7 @@ var csvHeader = []string{
 	"revision_id", "round", "at", "entered_by", "channel", "reason", "format", "stated",
 	"alpha", "beta", "lower", "upper", "sse", "max_prob_error", "p05", "p50", "p95", "warnings",
 	"units", "stated_as_typed", "typed_unit",
+	"sheet_file", "sheet_row", "sheet_sha256",
 }
 
 // WriteCSV writes one row per revision, oldest first. Stated values are
@@ -26,7 +27,10 @@ var csvHeader = []string{
 // "stated_as_typed" holds them as the expert typed them, percentages as
 // percentages and the confidence in percent (80), and "typed_unit" names
 // their unit ("%" or the question's units; for the interval format also
-// the confidence's). The question's units are in "units". Text that a
+// the confidence's). The question's units are in "units". A revision read
+// from an answer sheet names the file, its row and the file's SHA-256
+// ("sheet_file", "sheet_row", "sheet_sha256"; workshop.SheetSources),
+// empty otherwise. Text that a
 // spreadsheet would run as a formula is prefixed with an apostrophe.
 func (r Record) WriteCSV(w io.Writer) error {
 	questions := map[int64]workshop.Question{}
@@ -37,6 +41,11 @@ func (r Record) WriteCSV(w io.Writer) error {
 	for _, e := range r.Experts {
 		experts[e.ID] = e.Name
 	}
+	revs := make([]workshop.Revision, len(r.Revisions))
+	for i, rv := range r.Revisions {
+		revs[i] = rv.Revision
+	}
+	sheets := workshop.SheetSources(r.Events, revs)
 	cw := csv.NewWriter(w)
 	if err := cw.Write(csvHeader); err != nil {
 		return err
@@ -64,6 +73,11 @@ func (r Record) WriteCSV(w io.Writer) error {
 		}
 		typed, unit := asTyped(q, rv.Answer)
 		row = append(row, cell(q.Units), typed, cell(unit))
+		if src, ok := sheets[rv.ID]; ok {
+			row = append(row, cell(src.Name), strconv.Itoa(src.Row), src.SHA256)
+		} else {
+			row = append(row, "", "", "")
+		}
 		if err := cw.Write(row); err != nil {
 			return err
 		}
