@@ -17,6 +17,12 @@ type kept[T any] struct {
 	items map[string]keptItem[T]
 }
 
+// keptMax bounds the values kept at once: an answer sheet may be 1 MiB,
+// and each check of one (a script, or a sheet checked again and again)
+// was held for its half hour, without limit. Beyond it the value that
+// would expire first goes; its confirmation asks for the sheet again.
+const keptMax = 32
+
 type keptItem[T any] struct {
 	v       T
 	expires time.Time
@@ -39,6 +45,15 @@ func (k *kept[T]) keep(v T, now time.Time) (string, error) {
 		if now.After(it.expires) {
 			delete(k.items, old)
 		}
+	}
+	for len(k.items) >= keptMax {
+		var first string
+		for old, it := range k.items {
+			if first == "" || it.expires.Before(k.items[first].expires) {
+				first = old
+			}
+		}
+		delete(k.items, first)
 	}
 	k.items[key] = keptItem[T]{v: v, expires: now.Add(k.life)}
 	return key, nil
