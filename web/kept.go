@@ -14,14 +14,20 @@ import (
 type kept[T any] struct {
 	mu    sync.Mutex
 	life  time.Duration
+	max   int // values kept at once (keptSheets, keptLinks)
 	items map[string]keptItem[T]
 }
 
-// keptMax bounds the values kept at once: an answer sheet may be 1 MiB,
-// and each check of one (a script, or a sheet checked again and again)
-// was held for its half hour, without limit. Beyond it the value that
-// would expire first goes; its confirmation asks for the sheet again.
-const keptMax = 32
+// Bounds of the values kept at once. An answer sheet may be 1 MiB, and
+// each check of one (a script, or a sheet checked again and again) was
+// held for its half hour, without limit. Beyond the bound the value that
+// would expire first goes: a sheet's confirmation then asks for the
+// sheet again; a link just issued is not shown again (a panel of a few
+// hundred experts added within issuedFor keeps every one).
+const (
+	keptSheets = 32
+	keptLinks  = 4096
+)
 
 type keptItem[T any] struct {
 	v       T
@@ -29,8 +35,8 @@ type keptItem[T any] struct {
 	taken   bool // claimed by take
 }
 
-func newKept[T any](life time.Duration) *kept[T] {
-	return &kept[T]{life: life, items: map[string]keptItem[T]{}}
+func newKept[T any](life time.Duration, max int) *kept[T] {
+	return &kept[T]{life: life, max: max, items: map[string]keptItem[T]{}}
 }
 
 // keep remembers v until now+life and returns its key.
@@ -46,7 +52,7 @@ func (k *kept[T]) keep(v T, now time.Time) (string, error) {
 			delete(k.items, old)
 		}
 	}
-	for len(k.items) >= keptMax {
+	for len(k.items) >= k.max {
 		var first string
 		for old, it := range k.items {
 			if first == "" || it.expires.Before(k.items[first].expires) {

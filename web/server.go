@@ -92,7 +92,7 @@ func New(st Store, opt Options) (*Server, error) {
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
 		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newPreviewThrottle(opt.PreviewBurst),
-		issued: newKept[issuedEntry](issuedFor), sheets: newKept[keptSheet](sheetFor)}
+		issued: newKept[issuedEntry](issuedFor, keptLinks), sheets: newKept[keptSheet](sheetFor, keptSheets)}
 	if s.now == nil {
 		s.now = time.Now
 	}
