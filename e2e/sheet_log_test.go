@@ -50,6 +50,14 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			fits(t, fac, page, width)
 			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
 		}
+		// The question's history names the sheet and row beside the entry.
+		q1 := base + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+		if st := fac.open(q1); st != http.StatusOK {
+			t.Fatalf("panel: %d", st)
+		}
+		fac.sees("panel", "facilitator, by phone (answer sheet hx40-phone-answers-round1-final-version-2.csv, row 2)")
+		fits(t, fac, "panel", width)
+		shots.take(fac, "sheet-panel-"+strconv.FormatInt(width, 10))
 		// The upload page lists each question's columns and a header.
 		if st := fac.open(base + "/answers/import"); st != http.StatusOK {
 			t.Fatalf("upload page: %d", st)
