@@ -29,6 +29,7 @@ type sheetRig struct {
 	ws      workshop.Workshop
 	qs      []workshop.Question
 	experts []workshop.Expert
+	savedAt string // where the last confirmation sent the browser
 }
 
 func newSheetRig(t *testing.T) *sheetRig {

@@ -91,6 +91,10 @@ func sheetHeader(qs []workshop.Question) string {
 
 func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
 
+// sheetSavedPath is the overview saying what the last sheet saved: the
+// confirmation used to land on the overview without a word of it.
+func sheetSavedPath(ws int64) string { return workshopPath(ws) + "?imported=1#sheet-saved" }
+
 func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -251,7 +255,7 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	sh, found, taken := s.sheets.take(key, s.now())
 	if taken {
 		// Sent twice: the first is saving it, or has; nothing more is.
-		http.Redirect(w, r, workshopPath(ws.ID)+"#answered", http.StatusSeeOther)
+		http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 		return
 	}
 	if found && sh.workshop != ws.ID {
@@ -280,7 +284,7 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
 		return
 	}
-	http.Redirect(w, r, workshopPath(ws.ID)+"#answered", http.StatusSeeOther)
+	http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 }
 
 func channelNames() []string {

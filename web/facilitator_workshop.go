@@ -30,6 +30,9 @@ type workshopView struct {
 	// Issued is set right after an expert is added or their link re-issued:
 	// the private link, shown this once.
 	Issued *issuedLink
+	// SheetSaved is set right after an answer sheet is saved: the decision
+	// log's words for it, so the facilitator sees what was saved.
+	SheetSaved string
 }
 
 // issuedLink is a freshly issued private link; only its hash is stored.
@@ -69,7 +72,21 @@ func (s *Server) workshopOverview(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	s.showOverview(w, r, http.StatusOK, ws, workshopView{})
+	v := workshopView{}
+	if r.URL.Query().Get("imported") == "1" {
+		evs, err := s.store.Events(r.Context(), ws.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		for i := len(evs) - 1; i >= 0; i-- {
+			if evs[i].Kind == workshop.EventAnswersImported {
+				v.SheetSaved = eventWriter{}.sentence(evs[i])
+				break
+			}
+		}
+	}
+	s.showOverview(w, r, http.StatusOK, ws, v)
 }
 
 // showOverview fills v from the store and renders the overview.

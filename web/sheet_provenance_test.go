@@ -34,9 +34,11 @@ func (g *sheetRig) uploadSheet(t *testing.T, name, text, channel string) {
 	if key == nil {
 		t.Fatalf("no preview of %s: %s", name, body)
 	}
-	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+	r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}})
+	if r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("confirm %s: %d", name, r.StatusCode)
 	}
+	g.savedAt = r.Header.Get("Location")
 }
 
 // A judgement read from an answer sheet says which file and which row of
@@ -211,5 +213,26 @@ func TestSheetPreviewSaysWhatARowFollows(t *testing.T) {
 		if !strings.Contains(text, want) {
 			t.Errorf("the preview does not say %q", want)
 		}
+	}
+}
+
+// Once a sheet is saved, the overview says what was saved: the
+// confirmation landed on the overview without a word, so the facilitator
+// could not tell it had worked but by reading the table of answers.
+func TestSheetSavedIsSaid(t *testing.T) {
+	g := newSheetRig(t)
+	g.uploadSheet(t, "monday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n", "paper_form")
+	if g.savedAt != sheetSavedPath(g.ws.ID) {
+		t.Fatalf("the confirmation goes to %q", g.savedAt)
+	}
+	r, body := g.h.get(strings.TrimSuffix(g.savedAt, "#sheet-saved"))
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("overview: %d", r.StatusCode)
+	}
+	if text := html.UnescapeString(body); !strings.Contains(text, "Answer sheet saved.</strong> 2 judgements, rows 2–3 of monday.csv") || !strings.Contains(text, `id="sheet-saved"`) {
+		t.Error("the overview does not say what the sheet saved")
+	}
+	if _, body := g.h.get(workshopPath(g.ws.ID)); strings.Contains(body, "Answer sheet saved.") {
+		t.Error("the plain overview speaks of a sheet saved")
 	}
 }
