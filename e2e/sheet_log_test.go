@@ -71,5 +71,15 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 		fac.sees("sheet preview", "Nothing is saved yet", "1 row follows an answer the expert saved themselves", "Ines Varga's own answer of ")
 		fits(t, fac, "sheet preview", width)
 		shots.take(fac, "sheet-preview-"+strconv.FormatInt(width, 10))
+		if width == 390 {
+			// Saved: the overview says what, with the file's SHA-256.
+			fac.load("save the sheet", chromedp.Click(chromedp.CSS(`form[action$="/confirm"] button[type=submit]`)))
+			fac.sees("sheet saved", "Answer sheet saved.", "1 judgement, row 2 of a sheet")
+			for _, w := range []int64{390, 1366} {
+				fac.viewport(w, 900, w < 1000)
+				fits(t, fac, "sheet saved", w)
+				shots.take(fac, "sheet-saved-"+strconv.FormatInt(w, 10))
+			}
+		}
 	}
 }
