@@ -77,9 +77,10 @@ func provenanceFrom(rv workshop.Revision, sheets map[int64]workshop.SheetSource)
 }
 
 // sheetRowLabel names a sheet's row: "answer sheet answers.csv, row 3",
-// or "a pasted answer sheet, row 3".
+// or, for a sheet pasted into the form or read from standard input,
+// "an answer sheet without a file name, row 3".
 func sheetRowLabel(src workshop.SheetSource) string {
-	sheet := "a pasted answer sheet"
+	sheet := "an answer sheet without a file name"
 	if src.Name != "" {
 		sheet = "answer sheet " + src.Name
 	}

@@ -236,3 +236,19 @@ func TestSheetSavedIsSaid(t *testing.T) {
 		t.Error("the plain overview speaks of a sheet saved")
 	}
 }
+
+// A sheet without a file name (pasted, or given to import-answers on
+// standard input) is not said to be pasted.
+func TestSheetRowLabel(t *testing.T) {
+	for _, c := range []struct {
+		src  workshop.SheetSource
+		want string
+	}{
+		{workshop.SheetSource{Name: "monday.csv", Row: 3}, "answer sheet monday.csv, row 3"},
+		{workshop.SheetSource{Row: 2}, "an answer sheet without a file name, row 2"},
+	} {
+		if got := sheetRowLabel(c.src); got != c.want {
+			t.Errorf("sheetRowLabel(%+v) = %q, want %q", c.src, got, c.want)
+		}
+	}
+}
