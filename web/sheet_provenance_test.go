@@ -195,13 +195,17 @@ func TestSheetPreviewSaysWhatARowFollows(t *testing.T) {
 		t.Fatal(err)
 	}
 	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n"
-	// One row is "This judgement", not "These 1 judgement".
-	if _, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {"expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"}, "channel": {"file"}}); !strings.Contains(body, "This judgement will be saved") {
-		t.Error("a sheet of one row is not 'This judgement'")
+	// One row is "This judgement", not "These 1 judgement", and its
+	// button says so too.
+	if _, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {"expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"}, "channel": {"file"}}); !strings.Contains(body, "This judgement will be saved") || !strings.Contains(body, ">Save this judgement<") {
+		t.Error("a sheet of one row is not 'This judgement' with 'Save this judgement'")
 	}
 	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {sheet}, "channel": {"paper_form"}})
 	if r.StatusCode != http.StatusOK {
 		t.Fatalf("preview: %d", r.StatusCode)
+	}
+	if !strings.Contains(body, ">Save these judgements<") {
+		t.Error("a sheet of two rows is not 'Save these judgements'")
 	}
 	text := html.UnescapeString(body)
 	for _, want := range []string{
