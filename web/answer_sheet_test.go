@@ -497,6 +497,28 @@ func TestSheetUploadOverItsLimit(t *testing.T) {
 	}
 }
 
+// A malformed upload (a body cut short, which only a broken client sends)
+// is refused with words for the facilitator, not Go's "multipart:
+// NextPart: EOF", and nothing is saved.
+func TestMalformedUploadIsRefusedInWords(t *testing.T) {
+	g := newSheetRig(t)
+	var buf bytes.Buffer
+	mw := multipart.NewWriter(&buf)
+	fw, _ := mw.CreateFormFile("file", "answers.csv")
+	fw.Write([]byte(goodSheet))
+	body := buf.String() // no closing boundary: cut short
+	req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), strings.NewReader(body))
+	req.Header.Set("Content-Type", mw.FormDataContentType())
+	req.Header.Set("Origin", g.h.ts.URL)
+	r, got := g.h.do(req)
+	if r.StatusCode != http.StatusBadRequest || strings.Contains(got, "multipart:") || !strings.Contains(got, "Nothing was saved") {
+		t.Errorf("a cut-short upload: %d %q", r.StatusCode, got)
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("a malformed upload saved %d revisions", n)
+	}
+}
+
 // A sheet is saved whole or not at all: when the store refuses a later
 // row (its expert revoked after the sheet was read), the rows before it
 // are not kept either, and the refusal names the row. Saving the rows one

@@ -130,7 +130,9 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, SheetFile, 
 				tooLarge(w, mbe.Limit)
 				return nil, SheetFile{}, false
 			}
-			http.Error(w, "The upload could not be read: "+err.Error(), http.StatusBadRequest)
+			// Only a broken client sends this; Go's own words ("multipart:
+			// NextPart: EOF") would tell the facilitator nothing.
+			http.Error(w, "The upload could not be read as a file upload (multipart/form-data): the request was cut short or malformed. Nothing was saved; send the sheet again.", http.StatusBadRequest)
 			return nil, SheetFile{}, false
 		}
 		// As every form: a field, the file included, sent twice is
