@@ -268,7 +268,7 @@ func questionFormPage(v questionForm) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textInput(v.Form, "custom_probs", "Custom probabilities", "Only with “custom”: decimals between 0 and 1, increasing, separated by spaces or commas, e.g. 0.1 0.5 0.9.", false).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textInput(v.Form, "custom_probs", "Custom probabilities", "Only with “custom”: decimals between 0 and 1, increasing and at least 0.001 apart, separated by spaces or commas, e.g. 0.1 0.5 0.9.", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
