@@ -44,7 +44,9 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	server := startServer(t, parleyBinary(t), dbPath, freeAddr(t))
+	// Its expert saves without pause until the disk is full, far beyond a
+	// link's allowance of saves, so serve's --expert-save-burst raises it.
+	server := startServer(t, parleyBinary(t), dbPath, freeAddr(t), "--expert-save-burst", "1000000000")
 	defer server.kill()
 	cl := newClient(2)
 	status, cookies, err := postRaw(ctx, cl, server.base, "/signin", url.Values{"secret": {secret}})

@@ -91,12 +91,12 @@ type child struct {
 	waitErr error         // valid after done
 }
 
-// startServer starts `parley serve --no-demo` on addr over dbPath and
-// waits until it answers GET /signin.
-func startServer(t testing.TB, bin, dbPath, addr string) *child {
+// startServer starts `parley serve --no-demo` on addr over dbPath, with
+// any further flags, and waits until it answers GET /signin.
+func startServer(t testing.TB, bin, dbPath, addr string, flags ...string) *child {
 	t.Helper()
 	c := &child{
-		cmd:  exec.Command(bin, "serve", "--addr", addr, "--db", dbPath, "--no-demo"),
+		cmd:  exec.Command(bin, append([]string{"serve", "--addr", addr, "--db", dbPath, "--no-demo"}, flags...)...),
 		addr: addr, base: "http://" + addr,
 		out: &lockedBuffer{}, done: make(chan struct{}),
 	}

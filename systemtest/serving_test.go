@@ -5,6 +5,9 @@ import (
 	"context"
 	"encoding/json"
 	"errors"
+	"fmt"
+	mrand "math/rand/v2"
+	"net/http"
 	"os"
 	"os/exec"
 	"path/filepath"
@@ -244,4 +247,34 @@ func mountTmpfs(t *testing.T, size string) string {
 		os.Remove(dir)
 	})
 	return dir
+}
+
+// `parley serve --expert-save-burst N` gives each expert link N saves at
+// once, then paces them at one a second: the real binary takes the
+// flag's allowance from one link and answers the next save 429 with
+// Retry-After, while another link still saves.
+func TestServeExpertSaveBurst(t *testing.T) {
+	const burst = 3
+	dbPath := filepath.Join(t.TempDir(), "burst.db")
+	ws := seedWorkshop(t, dbPath, 2, 1)
+	c := startServer(t, parleyBinary(t), dbPath, freeAddr(t), "--expert-save-burst", strconv.Itoa(burst))
+	defer c.kill()
+	ctx := t.Context()
+	cl := newClient(2)
+	rng := mrand.New(mrand.NewPCG(3, 12))
+	q := ws.questions[0]
+	for i := range burst {
+		status, body, err := postForm(ctx, cl, c.base, savePath(ws.experts[0].token, q.ID), quantileAnswer(rng, fmt.Sprintf("save %d", i+1)).form)
+		if err != nil || status != http.StatusSeeOther {
+			t.Fatalf("save %d of %d: %d %v %.300s", i+1, burst, status, err, body)
+		}
+	}
+	status, body, err := postForm(ctx, cl, c.base, savePath(ws.experts[0].token, q.ID), quantileAnswer(rng, "one too many").form)
+	if err != nil || status != http.StatusTooManyRequests || !strings.Contains(body, "Nothing was saved") {
+		t.Fatalf("save %d with --expert-save-burst %d: %d %v %.300s", burst+1, burst, status, err, body)
+	}
+	status, body, err = postForm(ctx, cl, c.base, savePath(ws.experts[1].token, q.ID), quantileAnswer(rng, "another link").form)
+	if err != nil || status != http.StatusSeeOther {
+		t.Fatalf("another link's save: %d %v %.300s", status, err, body)
+	}
 }

@@ -34,9 +34,9 @@ func FuzzExpertAnswerForm(f *testing.F) {
 		f.Fatal(err)
 	}
 	f.Cleanup(func() { db.Close() })
-	// The fuzzer previews as one expert without pause, far beyond an
-	// expert's allowance of previews.
-	srv, err := web.New(db, web.Options{PreviewBurst: 1 << 30})
+	// The fuzzer previews and saves as one expert without pause, far
+	// beyond an expert's allowance of either.
+	srv, err := web.New(db, web.Options{PreviewBurst: 1 << 30, SaveBurst: 1 << 30})
 	if err != nil {
 		f.Fatal(err)
 	}

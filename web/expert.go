@@ -413,7 +413,7 @@ func (s *Server) expertRoutes(r chi.Router) {
 	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
 	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
 	r.Post("/q/{qid}/preview", s.throttlePreviews(s.inTurn(turns.Interactive, s.expertPreviewPost)))
-	r.Post("/q/{qid}/save", s.inTurn(turns.Interactive, s.expertSavePost))
+	r.Post("/q/{qid}/save", s.throttleSaves(s.inTurn(turns.Interactive, s.expertSavePost)))
 }
 
 func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }

@@ -17,28 +17,40 @@ import (
 // preview at most every 350 ms (preview.js waits for a pause), well
 // inside the allowance; on a 429 the page keeps its last picture and
 // asks again a second later.
+//
+// Saves have an allowance of their own: every save is a new revision,
+// kept for good in the record, so a link (or a script holding one) that
+// saved without pause wrote thousands of revisions a minute into the
+// workshop's file. An expert may save SaveBurst times at once and then
+// once every saveEvery, more than a person answering a whole workshop
+// question after question can use (the load test's experts save ten
+// questions a round without a pause); beyond it the save is refused with
+// 429, Retry-After and a page saying nothing was saved.
 const (
 	PreviewBurst = 20
 	previewEvery = 100 * time.Millisecond
+	SaveBurst    = 30
+	saveEvery    = time.Second
 )
 
-// previewThrottle holds each expert's allowance of previews.
-type previewThrottle struct {
+// linkThrottle holds each expert's allowance of one kind of request.
+type linkThrottle struct {
 	mu      sync.Mutex
 	experts limiters[int64]
 }
 
-// newPreviewThrottle allows burst previews at once (PreviewBurst when 0).
-func newPreviewThrottle(burst int) *previewThrottle {
+// newLinkThrottle allows burst requests at once (def when burst is 0),
+// then one every every.
+func newLinkThrottle(burst, def int, every time.Duration) *linkThrottle {
 	if burst <= 0 {
-		burst = PreviewBurst
+		burst = def
 	}
-	return &previewThrottle{experts: newLimiters[int64](previewEvery, burst)}
+	return &linkThrottle{experts: newLimiters[int64](every, burst)}
 }
 
-// admit takes one preview from the expert's allowance at now, or returns
+// admit takes one request from the expert's allowance at now, or returns
 // how long to wait when it is spent.
-func (t *previewThrottle) admit(expert int64, now time.Time) time.Duration {
+func (t *linkThrottle) admit(expert int64, now time.Time) time.Duration {
 	t.mu.Lock()
 	defer t.mu.Unlock()
 	r := t.experts.get(expert, now).ReserveN(now, 1)
@@ -49,19 +61,31 @@ func (t *previewThrottle) admit(expert int64, now time.Time) time.Duration {
 	return 0
 }
 
-// throttlePreviews answers a preview over the expert's allowance with 429
-// and Retry-After, before it takes a turn.
-func (s *Server) throttlePreviews(next http.HandlerFunc) http.HandlerFunc {
+// throttled answers a request over the expert's allowance in t with 429,
+// Retry-After and the page's words, before it takes a turn.
+func (s *Server) throttled(t *linkThrottle, title, words string, next http.HandlerFunc) http.HandlerFunc {
 	return func(w http.ResponseWriter, r *http.Request) {
-		wait := s.previews.admit(expertFrom(r.Context()).ID, s.now())
+		wait := t.admit(expertFrom(r.Context()).ID, s.now())
 		if wait <= 0 {
 			next(w, r)
 			return
 		}
 		secs := int((wait + time.Second - 1) / time.Second)
 		w.Header().Set("Retry-After", strconv.Itoa(secs))
-		s.renderPage(w, r, http.StatusTooManyRequests, pageMeta{Title: "One moment"},
-			messagePage("One moment", "Your page asked for more pictures of your fit than the server draws for one person at a time. "+
-				"Nothing is lost: wait a second, then go back and press Show the fit again."))
+		s.renderPage(w, r, http.StatusTooManyRequests, pageMeta{Title: title}, messagePage(title, words))
 	}
+}
+
+// throttlePreviews answers a preview over the expert's allowance with 429
+// and Retry-After, before it takes a turn.
+func (s *Server) throttlePreviews(next http.HandlerFunc) http.HandlerFunc {
+	return s.throttled(s.previews, "One moment", "Your page asked for more pictures of your fit than the server draws for one person at a time. "+
+		"Nothing is lost: wait a second, then go back and press Show the fit again.", next)
+}
+
+// throttleSaves answers a save over the expert's allowance with 429 and
+// Retry-After; nothing is saved.
+func (s *Server) throttleSaves(next http.HandlerFunc) http.HandlerFunc {
+	return s.throttled(s.saves, "One moment", "This link has saved more answers in a short while than the server takes from one person. "+
+		"Nothing was saved this time: wait a few seconds, then go back and save again.", next)
 }

@@ -12,7 +12,7 @@ import (
 // Each expert's previews are limited: PreviewBurst at once, then one
 // every previewEvery; the allowance of one expert is not another's.
 func TestPreviewThrottleAdmit(t *testing.T) {
-	th := newPreviewThrottle(0)
+	th := newLinkThrottle(0, PreviewBurst, previewEvery)
 	now := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
 	for i := range PreviewBurst {
 		if d := th.admit(1, now); d != 0 {
@@ -57,5 +57,45 @@ func TestOneExpertsPreviewsCannotCrowdOutTheOthers(t *testing.T) {
 	}
 	if res, body := preview(links[1].Path); res.StatusCode != http.StatusOK || !strings.Contains(body, "Beta(") {
 		t.Fatalf("another expert's preview meanwhile: %d %s", res.StatusCode, body)
+	}
+}
+
+// A link that saves without pause is refused past SaveBurst saves with
+// 429, Retry-After and words saying nothing was saved, and no revision is
+// written beyond the allowance; the other experts' saves go on. Every
+// save is a revision kept for good, so a script on one link wrote
+// thousands a minute into the record.
+func TestOneLinkCannotSaveWithoutPause(t *testing.T) {
+	h, _, qs, _, links := seeded(t)
+	frozen := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
+	h.srv.now = func() time.Time { return frozen }
+	ex := newHarnessOn(t, h)
+	save := func(link string, i int) (*http.Response, string) {
+		return ex.post(strings.TrimSuffix(link, "/")+"/q/"+strconv.FormatInt(qs[0].ID, 10)+"/save",
+			url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {strconv.FormatFloat(0.12+float64(i)/1e4, 'f', -1, 64)}})
+	}
+	revisions := func() int {
+		t.Helper()
+		rs, err := h.db.Revisions(t.Context(), qs[0].WorkshopID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return len(rs)
+	}
+	before := revisions()
+	for i := range SaveBurst {
+		if res, body := save(links[0].Path, i); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save %d: %d %.300s", i+1, res.StatusCode, body)
+		}
+	}
+	res, body := save(links[0].Path, SaveBurst)
+	if res.StatusCode != http.StatusTooManyRequests || res.Header.Get("Retry-After") != "1" || !strings.Contains(body, "Nothing was saved") {
+		t.Fatalf("a save past the allowance: %d, Retry-After %q", res.StatusCode, res.Header.Get("Retry-After"))
+	}
+	if n := revisions() - before; n != SaveBurst {
+		t.Errorf("%d revisions written, want %d", n, SaveBurst)
+	}
+	if res, body := save(links[1].Path, 0); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("another expert's save meanwhile: %d %.300s", res.StatusCode, body)
 	}
 }

@@ -43,6 +43,9 @@ type Options struct {
 	// (preview_throttle.go); 0 means web.PreviewBurst. Tests that post an
 	// expert's previews in a loop raise it.
 	PreviewBurst int
+	// SaveBurst is how many answers an expert may save at once
+	// (preview_throttle.go); 0 means web.SaveBurst.
+	SaveBurst int
 }
 
 // Server serves one Parley database to facilitators and experts.
@@ -78,8 +81,9 @@ type Server struct {
 	// once holds the posts of forms sent with a key, so that a form
 	// sent twice is saved once (once.go).
 	once *sentOnce
-	// previews limits each expert's previews (preview_throttle.go).
-	previews *previewThrottle
+	// previews and saves limit each expert's previews and saves
+	// (preview_throttle.go).
+	previews, saves *linkThrottle
 	// signIns limits what sign-in attempts may cost (signin_throttle.go).
 	signIns *signInThrottle
 }
@@ -91,7 +95,8 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	s := &Server{store: st, opt: opt, now: opt.Now, log: opt.Logger, feedbacks: memo.New[feedbackKey, *feedback](256),
 		fits:  newFitCache(fitCacheSize),
-		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newPreviewThrottle(opt.PreviewBurst),
+		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newLinkThrottle(opt.PreviewBurst, PreviewBurst, previewEvery),
+		saves:  newLinkThrottle(opt.SaveBurst, SaveBurst, saveEvery),
 		issued: newKept[issuedEntry](issuedFor, keptLinks), sheets: newKept[keptSheet](sheetFor, keptSheets)}
 	if s.now == nil {
 		s.now = time.Now

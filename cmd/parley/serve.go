@@ -20,14 +20,17 @@ import (
 )
 
 func init() {
-	command("serve", "run the workshop server (--addr, --db, --no-demo, --tls-cert, --tls-key); the default command", runServe)
+	command("serve", "run the workshop server (--addr, --db, --no-demo, --tls-cert, --tls-key, --base-url, --expert-save-burst); the default command", runServe)
 }
 
 // serveConfig is what `parley serve` was asked to do.
 type serveConfig struct {
 	addr, db, baseURL string
 	noDemo            bool
-	tlsCert, tlsKey   string
+	// saveBurst is how many answers one expert link may save at once
+	// before its saves are paced (web.Options.SaveBurst).
+	saveBurst       int
+	tlsCert, tlsKey string
 	// grace is how long a shutdown waits for requests in flight
 	// (shutdownGrace when zero).
 	grace time.Duration
@@ -47,11 +50,15 @@ func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&c.tlsCert, "tls-cert", "", "TLS certificate `file` (with --tls-key)")
 	fs.StringVar(&c.tlsKey, "tls-key", "", "TLS private key `file` (with --tls-cert)")
 	fs.StringVar(&c.baseURL, "base-url", "", "address printed in links handed out, e.g. http://192.168.1.20:8080 (default: from --addr)")
+	fs.IntVar(&c.saveBurst, "expert-save-burst", web.SaveBurst, "answers one expert link may save at once; further saves from that link are taken at one a second")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
 	}
 	if fs.NArg() > 0 {
 		return fail(stderr, "serve", badInput("addr", "unexpected argument %q", fs.Arg(0)))
+	}
+	if c.saveBurst < 1 {
+		return fail(stderr, "serve", badInput("expert-save-burst", "must be a whole number of at least 1, not %d", c.saveBurst))
 	}
 	if (c.tlsCert == "") != (c.tlsKey == "") {
 		return fail(stderr, "serve", badInput("tls-cert", "--tls-cert and --tls-key go together"))
@@ -136,6 +143,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		BaseURL:       base,
 		Logger:        slog.New(slog.NewTextHandler(stderr, nil)),
 		SecureCookies: c.tlsCert != "",
+		SaveBurst:     c.saveBurst,
 	})
 	if err != nil {
 		ln.Close()

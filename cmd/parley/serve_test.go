@@ -203,6 +203,9 @@ func TestServeFlags(t *testing.T) {
 		{"--addr", "no-port"},
 		{"--bogus"},
 		{"extra"},
+		{"--expert-save-burst", "0"},
+		{"--expert-save-burst", "-5"},
+		{"--expert-save-burst", "many"},
 	} {
 		var out, errOut bytes.Buffer
 		if code := runServe(args, nil, &out, &errOut); code != exitBadInput {
