@@ -41,7 +41,10 @@ const (
 	// onceLife is how long a post that was done is remembered: a
 	// browser's retry or a second click comes within seconds.
 	onceLife = 10 * time.Minute
-	// onceMax bounds the posts remembered at once; beyond it a post is
+	// onceMax bounds the posts remembered at once. When it is reached
+	// the post done longest ago is forgotten to make room (a retry comes
+	// within seconds, so the oldest is the one least likely to be sent
+	// again); only when every post held is still running is a new one
 	// not remembered (and so may run twice), never refused.
 	onceMax = 8192
 )
@@ -92,10 +95,22 @@ func (o *sentOnce) begin(id [sha256.Size]byte, path string, now time.Time) (p *o
 		o.forget(id, p)
 	}
 	if len(o.posts) >= onceMax {
+		var (
+			oldest    [sha256.Size]byte
+			oldestP   *oncePost
+			anyOldest bool
+		)
 		for k, p := range o.posts {
-			if !p.expires.IsZero() && !now.Before(p.expires) {
+			switch {
+			case p.expires.IsZero(): // still running
+			case !now.Before(p.expires):
 				o.forget(k, p)
+			case !anyOldest || p.expires.Before(oldestP.expires):
+				oldest, oldestP, anyOldest = k, p, true
 			}
+		}
+		if len(o.posts) >= onceMax && anyOldest {
+			o.forget(oldest, oldestP)
 		}
 		if len(o.posts) >= onceMax {
 			return nil, true, false

@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"crypto/sha256"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -10,6 +11,7 @@ import (
 	"strings"
 	"sync"
 	"testing"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -326,5 +328,42 @@ func TestAgreedPoolIsThePoolShown(t *testing.T) {
 	form.Del("pool_seen")
 	if res, _ := h.post(qp+"/agree", form); res.StatusCode != http.StatusSeeOther || len(priors()) != before+2 {
 		t.Fatalf("a post without the pool shown: %d", res.StatusCode)
+	}
+}
+
+// When onceMax posts are held, the post done longest ago makes room for
+// a new one, so the newest posts keep their guard: before, a full memory
+// took no new post for up to onceLife, and every form sent twice in
+// that while was saved twice. A post still running is never dropped.
+func TestSentOnceMakesRoomForANewPost(t *testing.T) {
+	o := newSentOnce()
+	now := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
+	id := func(i int) [sha256.Size]byte { return sha256.Sum256([]byte(strconv.Itoa(i))) }
+	for i := range onceMax {
+		p, first, remembered := o.begin(id(i), "/a/"+strconv.Itoa(i), now)
+		if !first || !remembered {
+			t.Fatalf("post %d: first %v, remembered %v", i, first, remembered)
+		}
+		if i > 0 { // the first post is still running
+			o.end(id(i), p, "/done/"+strconv.Itoa(i), now.Add(time.Duration(i)*time.Millisecond))
+		}
+	}
+	later := now.Add(time.Minute)
+	p, first, remembered := o.begin(id(onceMax), "/a/new", later)
+	if !first || !remembered {
+		t.Fatalf("a new post at full memory: first %v, remembered %v", first, remembered)
+	}
+	o.end(id(onceMax), p, "/done/new", later)
+	if _, ok := o.posts[id(1)]; ok {
+		t.Error("the post done longest ago is still held")
+	}
+	if _, ok := o.posts[id(0)]; !ok {
+		t.Error("the post still running was dropped")
+	}
+	if _, first, _ := o.begin(id(2), "/a/2", later); first {
+		t.Error("the second oldest post was dropped too")
+	}
+	if _, first, _ := o.begin(id(onceMax), "/a/new", later); first {
+		t.Error("the new post sent again runs again")
 	}
 }
