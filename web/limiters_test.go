@@ -7,7 +7,8 @@ import (
 )
 
 // limiters keeps at most maxLimiters: a new key first drops the keys
-// back at their full allowance, then all of them if every one is spent.
+// back at their full allowance, then, if every one is spent, the one with
+// the most left; the others keep what they spent.
 func TestLimitersStayBounded(t *testing.T) {
 	now := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
 	l := newLimiters[string](time.Second, 2)
@@ -29,5 +30,21 @@ func TestLimitersStayBounded(t *testing.T) {
 	}
 	if len(l.m) > maxLimiters {
 		t.Fatalf("%d limiters, more than %d", len(l.m), maxLimiters)
+	}
+	// Every limiter is spent in part; one is spent to the last token. A
+	// new key drops one limiter with a token left, and the spent one
+	// keeps its count.
+	var spent string
+	for k := range l.m {
+		spent = k
+		break
+	}
+	l.m[spent].AllowN(now, int(l.m[spent].TokensAt(now)))
+	l.get("one more", now)
+	if len(l.m) != maxLimiters {
+		t.Fatalf("%d limiters after a new key at full, want %d", len(l.m), maxLimiters)
+	}
+	if lim, ok := l.m[spent]; !ok || lim.TokensAt(now) != 0 {
+		t.Fatalf("a spent key's limiter was dropped (%v) and would be given back its allowance", !ok)
 	}
 }
