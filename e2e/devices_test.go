@@ -451,6 +451,17 @@ func TestKeyboardAndCrowdedChips(t *testing.T) {
 	if got := count(); got[2] != ":300 of 4000 characters left." {
 		t.Errorf("near the limit a screen reader is told %q, want 300 of 4000 left", got[2])
 	}
+	// A paste past the limit is kept whole (a maxlength cut it without a
+	// word) and the count says how far over it is; a character outside
+	// the Basic Multilingual Plane counts once, as the server counts it.
+	kept := eval[int](carmen, "a reason past the limit", `(() => { const ta = document.getElementById("f-reason"); ta.value = "x".repeat(4098) + "😀\n"; ta.dispatchEvent(new Event("input", {bubbles: true})); return ta.value.length; })()`)
+	if got := count(); kept != 4101 || got[1] != "100 characters over the limit of 4000: please shorten it before saving" || got[2] != ":Over the limit of 4000 characters: please shorten it before saving." {
+		t.Errorf("a reason 100 characters over: the box keeps %d UTF-16 units (want 4101), the count reads %q and tells a screen reader %q", kept, got[1], got[2])
+	}
+	if over := eval[bool](carmen, "the count marked over", `document.getElementById("f-reason-count").classList.contains("text-count-over")`); !over {
+		t.Error("a count over the limit is not marked")
+	}
+	shots.take(carmen, "device-expert-reason-over-390")
 
 	carmen.viewport(1366, 900, false)
 	carmen.open(link)

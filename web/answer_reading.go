@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"strconv"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -297,7 +298,7 @@ func readReason(f *Form) string {
 	case err == nil:
 		return reason
 	case errors.As(err, &ie) && ie.Rule == input.RuleTooLong:
-		f.set("reason", fmt.Sprintf("This is %d characters long; the most is %d. Please shorten it.", len([]rune(strings.TrimSpace(f.Value("reason")))), input.MaxLongText))
+		f.set("reason", fmt.Sprintf("This is %d characters long; the most is %d. Please shorten it.", utf8.RuneCountInString(input.Lines(f.Value("reason"))), input.MaxLongText))
 	case errors.As(err, &ie) && ie.Rule == input.RuleTextValid:
 		f.set("reason", "This holds an invisible character that cannot be kept, often brought along when text is pasted from another program. Please retype the part you pasted.")
 	default:

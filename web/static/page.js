@@ -1,19 +1,23 @@
 // Small things every page does. Progressive enhancement: without this
 // script the pages work as they are.
 //
-// 1. Text areas with a length limit show, as the person types, how many
-//    characters are left; the browser's maxlength already stops them at
-//    the limit, and the server checks it again. The count describes the
+// 1. Text areas with a length limit (data-max-chars) show, as the person
+//    types, how many characters are left, and past the limit how many
+//    are over; the server refuses a longer text and keeps it in the box
+//    to be shortened. (Not maxlength: a browser cuts a paste there
+//    without a word.) Characters are counted as the server counts them,
+//    in Unicode code points, a line break as one. The count describes the
 //    text area; a screen reader is told only when the count falls below a
-//    tenth of the limit and when it reaches none, not at every keystroke.
+//    tenth of the limit, reaches none and goes over, not at every
+//    keystroke.
 // 2. A table or picture that is wider than the screen scrolls inside its
 //    own box (the stylesheet does that); such a box becomes reachable by
 //    keyboard and is named for screen readers after its caption or the
 //    heading above it, so the scrolling is not for mouse users only.
 (function () {
   "use strict";
-  Array.prototype.forEach.call(document.querySelectorAll("textarea[maxlength]"), function (ta) {
-    var max = parseInt(ta.getAttribute("maxlength"), 10);
+  Array.prototype.forEach.call(document.querySelectorAll("textarea[data-max-chars]"), function (ta) {
+    var max = parseInt(ta.getAttribute("data-max-chars"), 10);
     if (!max) { return; }
     var note = document.createElement("span");
     note.className = "text-count";
@@ -27,13 +31,15 @@
     note.insertAdjacentElement("afterend", told);
     var zone = "";
     function show() {
-      var left = max - ta.value.length;
-      note.textContent = left + " of " + max + " characters left";
-      var near = left < max / 10;
+      var left = max - Array.from(ta.value).length;
+      var over = left < 0;
+      note.textContent = over ? (-left) + (left === -1 ? " character" : " characters") + " over the limit of " + max + ": please shorten it before saving" : left + " of " + max + " characters left";
+      var near = !over && left < max / 10;
       note.classList.toggle("text-count-near", near);
-      var now = left <= 0 ? "none" : near ? "near" : "";
+      note.classList.toggle("text-count-over", over);
+      var now = over ? "over" : left === 0 ? "none" : near ? "near" : "";
       if (now !== zone) {
-        told.textContent = now === "none" ? "No characters left: the limit is " + max + "." : now === "near" ? left + " of " + max + " characters left." : "";
+        told.textContent = now === "over" ? "Over the limit of " + max + " characters: please shorten it before saving." : now === "none" ? "No characters left: the limit is " + max + "." : now === "near" ? left + " of " + max + " characters left." : "";
         zone = now;
       }
     }
