@@ -4,6 +4,8 @@ import (
 	"bytes"
 	"context"
 	"encoding/csv"
+	"encoding/json"
+	"fmt"
 	"html"
 	"mime/multipart"
 	"net/http"
@@ -14,6 +16,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -107,6 +110,42 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 		if strings.Join(got, "\n") != strings.Join(want, "\n") {
 			t.Errorf("%s:\n%s\nwant\n%s", path, strings.Join(got, "\n"), strings.Join(want, "\n"))
 		}
+	}
+	// The JSON record names each one's sheet and row, and reads back; a
+	// sheet or row changed in the record is refused by the events.
+	r, body := g.h.get(workshopPath(g.ws.ID) + "/export.json")
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("GET export.json: %d", r.StatusCode)
+	}
+	rec, err := record.Parse(strings.NewReader(body))
+	if err != nil {
+		t.Fatalf("the exported record does not read back: %v", err)
+	}
+	var named []string
+	for _, rv := range rec.Revisions {
+		if s := rv.Sheet; s != nil {
+			named = append(named, fmt.Sprintf("%d %s %d %s", rv.ExpertID, s.File, s.Row, s.SHA256[:8]))
+		}
+	}
+	wantJSON := []string{
+		fmt.Sprintf("%d monday.csv 2 %s", ada, SheetFile{Text: monday}.SHA256()[:8]),
+		fmt.Sprintf("%d monday.csv 3 %s", bruno, SheetFile{Text: monday}.SHA256()[:8]),
+		fmt.Sprintf("%d tuesday.csv 3 %s", bruno, SheetFile{Text: tuesday}.SHA256()[:8]),
+	}
+	if strings.Join(named, "\n") != strings.Join(wantJSON, "\n") {
+		t.Errorf("the JSON record's revisions name\n%s\nwant\n%s", strings.Join(named, "\n"), strings.Join(wantJSON, "\n"))
+	}
+	var compact bytes.Buffer
+	if err := json.Compact(&compact, []byte(body)); err != nil {
+		t.Fatal(err)
+	}
+	body = compact.String()
+	if !strings.Contains(body, `"sheet":{"file":"monday.csv","row":2,"sha256":"`+SheetFile{Text: monday}.SHA256()+`"}`) {
+		t.Error(`the JSON record does not carry "sheet": {"file", "row", "sha256"} on a revision`)
+	}
+	tampered := strings.Replace(body, `"file":"monday.csv","row":3`, `"file":"monday.csv","row":4`, 1)
+	if _, err := record.Parse(strings.NewReader(tampered)); err == nil || !strings.Contains(err.Error(), ".sheet: does not match the answer sheet import") {
+		t.Errorf("a record whose revision names another row than its events: %v", err)
 	}
 	// The record names the revisions each sheet saved.
 	evs, err := g.h.db.Events(context.Background(), g.ws.ID)

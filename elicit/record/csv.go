@@ -41,11 +41,6 @@ func (r Record) WriteCSV(w io.Writer) error {
 	for _, e := range r.Experts {
 		experts[e.ID] = e.Name
 	}
-	revs := make([]workshop.Revision, len(r.Revisions))
-	for i, rv := range r.Revisions {
-		revs[i] = rv.Revision
-	}
-	sheets := workshop.SheetSources(r.Events, revs)
 	cw := csv.NewWriter(w)
 	if err := cw.Write(csvHeader); err != nil {
 		return err
@@ -73,8 +68,8 @@ func (r Record) WriteCSV(w io.Writer) error {
 		}
 		typed, unit := asTyped(q, rv.Answer)
 		row = append(row, cell(q.Units), typed, cell(unit))
-		if src, ok := sheets[rv.ID]; ok {
-			row = append(row, cell(src.Name), strconv.Itoa(src.Row), src.SHA256)
+		if src := rv.Sheet; src != nil {
+			row = append(row, cell(src.File), strconv.Itoa(src.Row), src.SHA256)
 		} else {
 			row = append(row, "", "", "")
 		}

@@ -91,8 +91,32 @@ type CurrentFit struct {
 // is set instead of Fit when the answer cannot be fitted.
 type Revision struct {
 	workshop.Revision
-	Fit      *Fit   `json:"fit,omitempty"`
-	FitError string `json:"fit_error,omitempty"`
+	// Sheet is the answer sheet and row the judgement was read from, when
+	// the facilitator imported it from one: derived from the log's
+	// answers_imported entries (workshop.SheetSources), as the CSV's
+	// sheet_file, sheet_row and sheet_sha256 are, and checked against
+	// them when a record is read (RuleSheetMismatch).
+	Sheet    *SheetRow `json:"sheet,omitempty"`
+	Fit      *Fit      `json:"fit,omitempty"`
+	FitError string    `json:"fit_error,omitempty"`
+}
+
+// SheetRow is where a judgement read from an answer sheet came from: the
+// file's name (empty for a sheet pasted into the upload page), its row as
+// a spreadsheet numbers rows, and the SHA-256 of the sheet as read.
+type SheetRow struct {
+	File   string `json:"file"`
+	Row    int    `json:"row"`
+	SHA256 string `json:"sha256"`
+}
+
+// sheetRows is each revision's SheetRow by the events (workshop.SheetSources).
+func sheetRows(events []workshop.Event, revisions []workshop.Revision) map[int64]SheetRow {
+	out := map[int64]SheetRow{}
+	for id, s := range workshop.SheetSources(events, revisions) {
+		out[id] = SheetRow{File: s.Name, Row: s.Row, SHA256: s.SHA256}
+	}
+	return out
 }
 
 // Fit is a fit as the record shows it: the Beta on the question's
@@ -229,12 +253,16 @@ func build(src workshop.Snapshot, now time.Time, panels bool) (Record, error) {
 	}
 	fits := make(map[int64]fitted, len(src.Revisions))
 	index := make(map[int64]int, len(src.Revisions)) // revision id → index in r.Revisions
+	sheets := sheetRows(src.Events, src.Revisions)
 	for _, rv := range src.Revisions {
 		q, ok := questions[rv.QuestionID]
 		if !ok {
 			return Record{}, fmt.Errorf("elicit: record: revision %d: question %d: %w", rv.ID, rv.QuestionID, workshop.ErrNotFound)
 		}
 		rr := Revision{Revision: rv}
+		if s, ok := sheets[rv.ID]; ok {
+			rr.Sheet = &s
+		}
 		if rr.EnteredBy == "" {
 			rr.EnteredBy = workshop.ByExpert // records older than the field were all the experts' own
 		}

@@ -57,6 +57,10 @@ const fitAgreement = 1e-6
 // answer.
 const RuleFitMismatch elicit.Rule = "does not match a fresh fit of its answer"
 
+// RuleSheetMismatch is the rule that a revision's answer sheet and row
+// are the ones the log's answers_imported entries give it.
+const RuleSheetMismatch elicit.Rule = "does not match the answer sheet import in the record's events"
+
 func (r Record) validate(fits []elicit.Fit) error {
 	if r.Format != Version {
 		return inputErr("parley_record", elicit.RuleUnknown, "format %d; this version reads %d", r.Format, Version)
@@ -110,6 +114,11 @@ func (r Record) validate(fits []elicit.Fit) error {
 	}
 	seenR := map[int64]bool{}
 	pooled := map[int64]pooledFit{} // revision → its question, expert and the fit a panel pooled
+	revs := make([]workshop.Revision, len(r.Revisions))
+	for i, rv := range r.Revisions {
+		revs[i] = rv.Revision
+	}
+	sheets := sheetRows(r.Events, revs)
 	for i, rv := range r.Revisions {
 		p := fmt.Sprintf("revisions[%d]", i)
 		if err := checkID(p+".id", rv.ID, seenR); err != nil {
@@ -134,6 +143,14 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 		if err := rv.CheckProvenance(); err != nil {
 			return under(p, err)
+		}
+		if s := rv.Sheet; s != nil {
+			if want, ok := sheets[rv.ID]; !ok {
+				return inputErr(p+".sheet", RuleSheetMismatch, "no answer sheet import in the events names revision %d", rv.ID)
+			} else if *s != want {
+				return inputErr(p+".sheet", RuleSheetMismatch, "the record says %q row %d (SHA-256 %s), the events say %q row %d (SHA-256 %s)",
+					s.File, s.Row, s.SHA256, want.File, want.Row, want.SHA256)
+			}
 		}
 		f, err := q.Fit(rv.Answer)
 		if err != nil {
