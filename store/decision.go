@@ -6,8 +6,8 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
-	"math"
 	"sort"
+	"strings"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -93,31 +93,16 @@ func marshalBasis(b *workshop.WeightBasis) (any, error) {
 	return string(out), nil
 }
 
+// checkWeights checks a set by its rules (workshop.Weights.Check), naming
+// an expert's weight "weights[ID]" and the whole set "weights", as the
+// facilitator's form names them.
 func checkWeights(w workshop.Weights) error {
-	switch w.Scheme {
-	case workshop.WeightsEqual, workshop.WeightsCustom, workshop.WeightsPerformance:
-	default:
-		return &elicit.InputError{Field: "scheme", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", w.Scheme)}
+	err := w.Check()
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && strings.HasPrefix(ie.Field, "by_expert") {
+		return &elicit.InputError{Field: "weights" + strings.TrimPrefix(ie.Field, "by_expert"), Rule: ie.Rule, Detail: ie.Detail}
 	}
-	total := 0.0
-	for _, id := range sortedExperts(w.ByExpert) {
-		v := w.ByExpert[id]
-		f := fmt.Sprintf("weights[%d]", id)
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return &elicit.InputError{Field: f, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", v)}
-		}
-		if v < 0 {
-			return &elicit.InputError{Field: f, Rule: elicit.RuleNonNegative, Detail: fmt.Sprintf("got %v", v)}
-		}
-		total += v
-	}
-	if w.Scheme != workshop.WeightsEqual && total == 0 {
-		return &elicit.InputError{Field: "weights", Rule: elicit.RuleWeightsNotAllZero}
-	}
-	if w.Basis != nil && w.Scheme != workshop.WeightsPerformance {
-		return &elicit.InputError{Field: "basis", Rule: elicit.RuleUnknown, Detail: "only performance weights have a basis"}
-	}
-	return nil
+	return err
 }
 
 func sortedExperts(m map[int64]float64) []int64 {

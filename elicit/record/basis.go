@@ -14,11 +14,9 @@ import (
 // reference points at the record's experts, questions and revisions, an
 // answer's quantiles are those its revision saved, and the set's weights
 // are the basis's. The scores themselves are the record of what was done
-// and are not recomputed here.
+// and are not recomputed here. That only performance weights have a
+// basis is the set's own rule (workshop.Weights.Check, checked first).
 func checkBasis(p string, b workshop.WeightBasis, wt workshop.Weights, r Record, experts map[int64]bool, questions map[int64]workshop.Question) error {
-	if wt.Scheme != workshop.WeightsPerformance {
-		return inputErr(p, elicit.RuleUnknown, "only performance weights have a basis, not %s weights", wt.Scheme)
-	}
 	if b.Method != workshop.BasisClassicalModel {
 		return inputErr(p+".method", elicit.RuleUnknown, "%q", b.Method)
 	}

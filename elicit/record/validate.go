@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"math"
 	"reflect"
-	"sort"
+	"slices"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -475,33 +475,18 @@ func checkRecordWeights(p string, wt workshop.Weights, w workshop.Workshop, expe
 	if wt.WorkshopID != w.ID {
 		return inputErr(p+".workshop_id", elicit.RuleUnknown, "%d is not the workshop's id %d", wt.WorkshopID, w.ID)
 	}
-	switch wt.Scheme {
-	case workshop.WeightsEqual, workshop.WeightsCustom, workshop.WeightsPerformance:
-	default:
-		return inputErr(p+".scheme", elicit.RuleUnknown, "%q", wt.Scheme)
+	if err := wt.Check(); err != nil {
+		return under(p, err)
 	}
 	ids := make([]int64, 0, len(wt.ByExpert))
 	for id := range wt.ByExpert {
 		ids = append(ids, id)
 	}
-	sort.Slice(ids, func(i, j int) bool { return ids[i] < ids[j] })
-	total := 0.0
+	slices.Sort(ids)
 	for _, id := range ids {
-		f := fmt.Sprintf("%s.by_expert[%d]", p, id)
 		if !experts[id] {
-			return inputErr(f, elicit.RuleUnknown, "no expert %d in the record", id)
+			return inputErr(fmt.Sprintf("%s.by_expert[%d]", p, id), elicit.RuleUnknown, "no expert %d in the record", id)
 		}
-		v := wt.ByExpert[id]
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return inputErr(f, elicit.RuleFinite, "got %v", v)
-		}
-		if v < 0 {
-			return inputErr(f, elicit.RuleNonNegative, "got %v", v)
-		}
-		total += v
-	}
-	if wt.Scheme != workshop.WeightsEqual && total == 0 {
-		return inputErr(p+".by_expert", elicit.RuleWeightsNotAllZero, "")
 	}
 	return input.CheckText(p+".reason", wt.Reason, input.MaxLongText, false)
 }

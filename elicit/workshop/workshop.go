@@ -1,6 +1,9 @@
 package workshop
 
 import (
+	"fmt"
+	"math"
+	"slices"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -315,6 +318,44 @@ type Weights struct {
 	// nil for equal and custom weights, and for performance weights set
 	// before Parley kept it.
 	Basis *WeightBasis `json:"basis,omitempty"`
+}
+
+// Check checks a weight set's own rules, the one place they live (the
+// store checks a set before saving it, the record each set it carries):
+// a known scheme; every weight finite and not negative; not all zero
+// unless the scheme is equal; a basis only for performance weights.
+// Errors are *elicit.InputError naming the set's keys as the record
+// writes them: "scheme", "by_expert[ID]", "by_expert", "basis".
+func (w Weights) Check() error {
+	switch w.Scheme {
+	case WeightsEqual, WeightsCustom, WeightsPerformance:
+	default:
+		return &elicit.InputError{Field: "scheme", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("%q", w.Scheme)}
+	}
+	ids := make([]int64, 0, len(w.ByExpert))
+	for id := range w.ByExpert {
+		ids = append(ids, id)
+	}
+	slices.Sort(ids)
+	total := 0.0
+	for _, id := range ids {
+		v := w.ByExpert[id]
+		f := fmt.Sprintf("by_expert[%d]", id)
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			return &elicit.InputError{Field: f, Rule: elicit.RuleFinite, Detail: fmt.Sprintf("got %v", v)}
+		}
+		if v < 0 {
+			return &elicit.InputError{Field: f, Rule: elicit.RuleNonNegative, Detail: fmt.Sprintf("got %v", v)}
+		}
+		total += v
+	}
+	if w.Scheme != WeightsEqual && total == 0 {
+		return &elicit.InputError{Field: "by_expert", Rule: elicit.RuleWeightsNotAllZero}
+	}
+	if w.Basis != nil && w.Scheme != WeightsPerformance {
+		return &elicit.InputError{Field: "basis", Rule: elicit.RuleUnknown, Detail: "only performance weights have a basis"}
+	}
+	return nil
 }
 
 // Of is the unnormalised pool weight of an expert: 1 under equal weights
