@@ -379,7 +379,17 @@ func TestDensityCap(t *testing.T) {
 }
 
 func TestPercentileLabelsDoNotOverlap(t *testing.T) {
-	for _, d := range []elicit.ScaledBeta{sbeta(1.5, 6.65, 0, 1), sbeta(0.5, 40, 0, 1), sbeta(0.3, 0.3, 0, 1), sbeta(4.2, 17.9, 0, 1)} {
+	ds := []elicit.ScaledBeta{sbeta(1.5, 6.65, 0, 1), sbeta(0.5, 40, 0, 1), sbeta(0.3, 0.3, 0, 1), sbeta(4.2, 17.9, 0, 1)}
+	// And a grid of shapes, U, J and bell, narrow and broad, with labels
+	// of four figures and more (common practice, no source: a spread of
+	// the shapes experts give).
+	shapes := []float64{0.3, 0.5, 1, 2, 5, 20, 100, 3000}
+	for _, a := range shapes {
+		for _, b := range shapes {
+			ds = append(ds, sbeta(a, b, 0, 1), sbeta(a, b, 0, 1000))
+		}
+	}
+	for _, d := range ds {
 		m := newFitModel(fitViewOf(d))
 		type span struct{ lo, hi float64 }
 		for _, dr := range m.Drawings {
@@ -475,14 +485,14 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 		return b.String()
 	}
 	plain := render(v)
-	for _, want := range []string{"<td>0.06</td>", "median " + formatSig(d.Quantile(0.5), 3) + "<", "your stated values", "you said", "fitted chance below yours", "fitted to your judgement", "Your stated points"} {
+	for _, want := range []string{"<td>0.06</td>", "median " + FormatWithin(d.Quantile(0.5), 0, 1, false) + "<", "your stated values", "you said", "fitted chance below yours", "fitted to your judgement", "Your stated points"} {
 		if !strings.Contains(plain, want) {
 			t.Errorf("decimals: lacks %q", want)
 		}
 	}
 	v.Percent = true
 	pct := render(v)
-	for _, want := range []string{"<td>6%</td>", "<td>36%</td>", "median " + formatSig(100*d.Quantile(0.5), 3) + "%<", ">" + FormatWithin(d.Quantile(0.95), 0, 1, true) + "</td>", "5% chance below 6%"} {
+	for _, want := range []string{"<td>6%</td>", "<td>36%</td>", "median " + FormatWithin(d.Quantile(0.5), 0, 1, true) + "<", ">" + FormatWithin(d.Quantile(0.95), 0, 1, true) + "</td>", "5% chance below 6%"} {
 		if !strings.Contains(pct, want) {
 			t.Errorf("percent: lacks %q", want)
 		}
@@ -520,5 +530,24 @@ func TestPanelCaptionUsesTheAxesWords(t *testing.T) {
 	if !strings.Contains(html, "Density (upper plot) and chance below each value (lower plot) of Response rate") ||
 		strings.Contains(html, "cumulative") || !strings.Contains(html, ">chance below<") {
 		t.Errorf("the caption does not name the plots as their axes do:\n%s", html)
+	}
+}
+
+// A percentile's label on the picture gives the number its table row
+// gives, to the same figures, in each layout: it said "median 0.198"
+// beside the table's 0.1979.
+func TestPercentileLabelsMatchTheTable(t *testing.T) {
+	for _, d := range []elicit.ScaledBeta{sbeta(2.75, 10.16, 0, 1), sbeta(1.5, 6.65, 0, 1), sbeta(40, 3, 0, 1), sbeta(4.2, 17.9, 0, 100)} {
+		m := newFitModel(fitViewOf(d))
+		for _, dr := range m.Drawings {
+			if len(dr.Marks) != 3 {
+				t.Fatalf("Beta(%v, %v), %s: %d percentile marks", d.Alpha, d.Beta.Beta, dr.Twin.Layout.Name, len(dr.Marks))
+			}
+			for i, k := range dr.Marks {
+				if want := [3]string{"5%", "median", "95%"}[i] + " " + m.Pcts[i]; k.Label != want {
+					t.Errorf("Beta(%v, %v), %s: label %q, the table gives %q", d.Alpha, d.Beta.Beta, dr.Twin.Layout.Name, k.Label, want)
+				}
+			}
+		}
 	}
 }

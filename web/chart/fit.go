@@ -195,44 +195,103 @@ func fitPoints(v FitView, g twinGeom) []pointGeom {
 }
 
 // fitMarks places the fitted 5%, median and 95% lines and their labels.
-// Labels sit on one of two rows above the plot; a label moves up a row
-// when it would overlap the one before it on the lower row, and a label
-// near an edge is anchored to stay inside the picture.
+// Labels sit on one of two rows above the plot, each centred on its line,
+// or starting or ending at it, whichever first clears the labels before
+// it on a row (the lower row first) and stays inside the picture. A label
+// that fits nowhere by its line goes on the row it overlaps least, and
+// that row's labels are then pushed apart, inside the picture, so that
+// none covers another (three labels crowded at one end, as for a Beta
+// piled against a bound).
 func fitMarks(v FitView, g twinGeom) []markGeom {
-	var out []markGeom
-	names := [3]string{"5%", "median", "95%"}
-	rowEnd := [2]float64{-1e9, -1e9}
+	type label struct {
+		i      int // index into out
+		anchor string
+		left   float64
+		w      float64
+		px     float64
+	}
+	var (
+		out   []markGeom
+		rows  [2][]label
+		names = [3]string{"5%", "median", "95%"}
+		width = g.Layout.width()
+	)
+	rowEnd := func(r int) float64 {
+		if n := len(rows[r]); n > 0 {
+			return rows[r][n-1].left + rows[r][n-1].w
+		}
+		return -1e9
+	}
 	for i, x := range v.Percentiles {
 		if !isFinite(x) || x < g.X0 || x > g.X1 {
 			continue
 		}
 		px := g.dens.px(x)
-		label := names[i] + " " + formatWithin(x, v.Lower, v.Upper, v.Percent, 3)
-		w := labelWidth(label)
-		anchor, left := "middle", px-w/2
-		switch {
-		case px-w/2 < 2:
-			anchor, left = "start", px-4
-		case px+w/2 > g.Layout.width()-2:
-			anchor, left = "end", px+4-w
+		// The number the table, the caption and the read-back give, to the
+		// same figures: a label of 0.198 beside a table's 0.1979 read as
+		// two answers.
+		text := names[i] + " " + v.value(x)
+		w := labelWidth(text)
+		places := []label{{anchor: "middle", left: px - w/2}, {anchor: "start", left: px - 4}, {anchor: "end", left: px + 4 - w}}
+		inside := func(l label) bool { return l.left >= 2 && l.left+w <= width-2 }
+		row, at, found := 0, label{}, false
+		for r := 0; r < 2 && !found; r++ {
+			for _, p := range places {
+				if inside(p) && p.left >= rowEnd(r)+6 {
+					row, at, found = r, p, true
+					break
+				}
+			}
 		}
-		row := 0
-		if left < rowEnd[0]+6 {
-			row = 1
+		if !found {
+			// The nearest place inside the picture, on the row it overlaps
+			// least; the row is pushed apart below.
+			at = places[0]
+			if !inside(at) {
+				at = label{anchor: "start", left: min(max(2, at.left), width-2-w)}
+			}
+			if rowEnd(1)-at.left < rowEnd(0)-at.left {
+				row = 1
+			}
 		}
-		rowEnd[row] = left + w
-		lx := px
-		switch anchor {
-		case "start":
-			lx = px - 4
-		case "end":
-			lx = px + 4
-		}
+		at.i, at.w, at.px = len(out), w, px
+		rows[row] = append(rows[row], at)
 		out = append(out, markGeom{
 			X: coord(px), Top: coord(g.dens.Top), Bottom: coord(g.cumul.bottom()),
-			LabelX: coord(lx), Anchor: anchor,
-			LabelY: coord(g.dens.Top - 8 - 15*float64(row)), Label: label, Value: strconv.FormatFloat(x, 'g', -1, 64),
+			LabelY: coord(g.dens.Top - 8 - 15*float64(row)), Label: text, Value: strconv.FormatFloat(x, 'g', -1, 64),
 		})
+	}
+	for _, row := range rows {
+		// Push apart: rightwards from the first, then leftwards from the
+		// last to keep inside the right edge, then inside the left.
+		for j := 1; j < len(row); j++ {
+			row[j].left = max(row[j].left, row[j-1].left+row[j-1].w+6)
+		}
+		for j := len(row) - 1; j >= 0; j-- {
+			limit := width - 2
+			if j+1 < len(row) {
+				limit = row[j+1].left - 6
+			}
+			row[j].left = min(row[j].left, limit-row[j].w)
+		}
+		for j := range row {
+			if j == 0 {
+				row[j].left = max(row[j].left, 2)
+			} else {
+				row[j].left = max(row[j].left, row[j-1].left+row[j-1].w+6)
+			}
+		}
+		for _, l := range row {
+			m := &out[l.i]
+			switch {
+			case l.anchor == "middle" && l.left == l.px-l.w/2:
+				m.Anchor, m.LabelX = "middle", coord(l.px)
+			case l.anchor == "end" && l.left == l.px+4-l.w:
+				m.Anchor, m.LabelX = "end", coord(l.left+l.w)
+			default:
+				m.Anchor, m.LabelX = "start", coord(l.left)
+			}
+		}
 	}
 	return out
 }
