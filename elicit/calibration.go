@@ -629,15 +629,85 @@ func relativeInformation(s, p []float64) float64 {
 }
 
 func calibration(counts []int, n int, binP []float64) float64 {
+	c, _ := calibrationLog(counts, n, binP)
+	return c
+}
+
+// calibrationLog is the calibration score C and its natural logarithm.
+// ln C is finite whatever N: with a few hundred calibration questions a
+// poorly calibrated expert's 2·N·I passes 1500, where C is below the
+// smallest double and was 0 for every such expert, so that weights
+// C·I/Σ C·I became 0/0 or all alike. C is exp(ln C), 0 below the double
+// range; ln C is math.Log(C) exactly wherever C is a normal double, so
+// that a cut-off typed as a shown score compares the same either way.
+func calibrationLog(counts []int, n int, binP []float64) (float64, float64) {
 	s := make([]float64, len(counts))
 	for j, c := range counts {
 		s[j] = float64(c) / float64(n)
 	}
 	stat := 2 * float64(n) * relativeInformation(s, binP)
 	if stat <= 0 {
-		return 1 // rounding can make I slightly negative when s = p
+		return 1, 0 // rounding can make I slightly negative when s = p
 	}
-	return distuv.ChiSquared{K: float64(len(binP) - 1)}.Survival(stat)
+	lc := logChiSquareSurvival(float64(len(binP)-1), stat)
+	c := math.Exp(lc)
+	if c >= minNormal {
+		lc = math.Log(c)
+	}
+	return c, lc
+}
+
+// minNormal is the smallest normal float64, 2⁻¹⁰²².
+const minNormal = 0x1p-1022
+
+// logChiSquareSurvival is ln(1 − F_χ²(x; k)) = ln Q(k/2, x/2), Q the
+// regularized upper incomplete gamma function. Where gonum's tail is a
+// normal double it is gonum's (through log1p of the lower tail while the
+// upper is above one half); beyond, where gonum's underflows (x above
+// about 1500 for k up to 40), it is Legendre's continued fraction
+//
+//	Q(a, z) = e⁻ᶻ zᵃ / Γ(a) · 1/(z+1−a − 1·(1−a)/(z+3−a − 2·(2−a)/(z+5−a − …)))
+//
+// evaluated by the modified Lentz method, with the prefactor in logs
+// (Numerical Recipes, 3rd ed., §6.2, gcf; Abramowitz & Stegun 6.5.31).
+// It converges fast for z > a + 1, which holds wherever Q underflows.
+func logChiSquareSurvival(k, x float64) float64 {
+	d := distuv.ChiSquared{K: k}
+	if p := d.CDF(x); p < 0.5 {
+		return math.Log1p(-p)
+	}
+	if q := d.Survival(x); q >= 1e-300 {
+		return math.Log(q)
+	}
+	a, z := k/2, x/2
+	if !(z > a+1) {
+		return logSub(d.Survival(x))
+	}
+	const tiny = 1e-300
+	b := z + 1 - a
+	c := 1 / tiny
+	dd := 1 / b
+	h := dd
+	for i := 1; i < 10000; i++ {
+		an := -float64(i) * (float64(i) - a)
+		b += 2
+		dd = an*dd + b
+		if math.Abs(dd) < tiny {
+			dd = tiny
+		}
+		c = b + an/c
+		if math.Abs(c) < tiny {
+			c = tiny
+		}
+		dd = 1 / dd
+		del := dd * c
+		h *= del
+		if math.Abs(del-1) < floatEps {
+			break
+		}
+	}
+	lg, _ := math.Lgamma(a)
+	return a*math.Log(z) - z - lg + math.Log(h)
 }
 
 // InformationScore is the relative information, on one question with
