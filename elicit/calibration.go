@@ -121,19 +121,23 @@ type ModelOptions struct {
 type ExpertScore struct {
 	Expert      string  `json:"expert"`
 	Calibration float64 `json:"calibration"`
-	Information float64 `json:"information"`
-	Combined    float64 `json:"combined"` // Calibration × Information
-	Weight      float64 `json:"weight"`   // normalised; 0 below the cut-off
-	N           int     `json:"n"`        // calibration questions answered
+	// LogCalibration is ln Calibration, finite where Calibration is
+	// below the smallest double and so 0.
+	LogCalibration float64 `json:"log_calibration"`
+	Information    float64 `json:"information"`
+	Combined       float64 `json:"combined"` // Calibration × Information
+	Weight         float64 `json:"weight"`   // normalised; 0 below the cut-off
+	N              int     `json:"n"`        // calibration questions answered
 }
 
 // PooledScore is the score of the performance-weighted pool, computed as
 // for an expert from its quantiles at the experts' probabilities.
 type PooledScore struct {
-	Calibration float64 `json:"calibration"`
-	Information float64 `json:"information"`
-	Combined    float64 `json:"combined"`
-	N           int     `json:"n"`
+	Calibration    float64 `json:"calibration"`
+	LogCalibration float64 `json:"log_calibration"`
+	Information    float64 `json:"information"`
+	Combined       float64 `json:"combined"`
+	N              int     `json:"n"`
 }
 
 // SeedResult is one calibration question's intrinsic range and the
@@ -150,7 +154,11 @@ type SeedResult struct {
 // Scores is the outcome of the classical model. Experts and Questions are
 // sorted by name.
 type Scores struct {
-	Alpha     float64       `json:"alpha"`
+	Alpha float64 `json:"alpha"`
+	// LogAlpha is ln α when α is a calibration score below the smallest
+	// double (so that Alpha is 0 though it leaves experts out); nil
+	// otherwise.
+	LogAlpha  *float64      `json:"log_alpha,omitempty"`
 	Probs     []float64     `json:"probs"`
 	Overshoot float64       `json:"overshoot"`
 	Experts   []ExpertScore `json:"experts"`
@@ -180,6 +188,9 @@ func (s Scores) Weights() map[string]float64 {
 // (CalibrationScore), the information score is the mean over the expert's
 // questions of InformationScore on each question's intrinsic range, and
 // the weight is w ∝ C·I·1{C ≥ α}, normalised to sum to 1.
+// Scores and weights are formed from ln C, so they stay defined and
+// ordered where C itself is below the smallest double (many calibration
+// questions): Calibration then reads 0 and LogCalibration holds the score.
 //
 // Each question's intrinsic range [L*, U*] runs from L = the smallest of
 // all experts' lowest quantiles and the realisation to U = the largest of
@@ -428,25 +439,26 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 			out.Experts[a.expert].N++
 		}
 	}
-	maxCal := 0.0
+	var maxCal *score
 	for e := range out.Experts {
 		es := &out.Experts[e]
-		es.Calibration = calibration(counts[e], es.N, s.binP)
+		es.Calibration, es.LogCalibration = calibrationLog(counts[e], es.N, s.binP)
 		es.Information = info[e] / float64(es.N)
 		es.Combined = es.Calibration * es.Information
-		if es.Combined > 0 {
-			maxCal = math.Max(maxCal, es.Calibration)
+		if c := scoreOf(*es); es.Information > 0 && (maxCal == nil || maxCal.below(c)) {
+			maxCal = &c
 		}
 	}
-	if maxCal == 0 {
-		return Scores{}, inputErr("experts", RuleNoScoredExperts, "every calibration score is 0")
+	if maxCal == nil {
+		return Scores{}, inputErr("experts", RuleNoScoredExperts, "every information score is 0")
 	}
-	var a float64
+	var a score
 	switch {
-	case alpha != nil && *alpha > maxCal:
-		return Scores{}, inputErr("alpha", RuleAlphaTooHigh, "%v above %v", *alpha, maxCal)
 	case alpha != nil:
-		a = *alpha
+		a = score{c: *alpha, log: logSub(*alpha)}
+		if maxCal.below(a) {
+			return Scores{}, inputErr("alpha", RuleAlphaTooHigh, "%v above %v", *alpha, maxCal.c)
+		}
 	default:
 		a = s.bestAlpha(out.Experts)
 	}
@@ -454,45 +466,72 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 	for e := range out.Experts {
 		out.Experts[e].Weight = w[e]
 	}
-	out.Alpha = a
+	out.Alpha = a.c
+	if a.c == 0 && !math.IsInf(a.log, -1) {
+		l := a.log
+		out.LogAlpha = &l
+	}
 	out.Pooled, out.Questions = s.weightedPool(w)
 	return out, nil
 }
 
+// score is a calibration score and its logarithm, ordered by the score
+// while both are normal doubles (as a typed cut-off compares) and by the
+// logarithm below.
+type score struct{ c, log float64 }
+
+func scoreOf(e ExpertScore) score { return score{e.Calibration, e.LogCalibration} }
+
+func (s score) below(t score) bool {
+	if s.c >= minNormal && t.c >= minNormal {
+		return s.c < t.c
+	}
+	return s.log < t.log
+}
+
 // bestAlpha returns the candidate cut-off (an expert's calibration score)
 // whose weighted pool has the largest combined score; ties go to the
-// smaller α.
-func (s *seedSet) bestAlpha(es []ExpertScore) float64 {
-	var cands []float64
+// smaller α. The pools' scores compare as ln C + ln I, which stay
+// ordered where C·I underflows.
+func (s *seedSet) bestAlpha(es []ExpertScore) score {
+	var cands []score
 	for _, e := range es {
-		if e.Combined > 0 {
-			cands = append(cands, e.Calibration)
+		if e.Information > 0 {
+			cands = append(cands, scoreOf(e))
 		}
 	}
-	sort.Float64s(cands)
+	sort.Slice(cands, func(i, j int) bool { return cands[i].below(cands[j]) })
 	best, bestScore := cands[0], math.Inf(-1)
 	for i, a := range cands {
-		if i > 0 && a == cands[i-1] {
+		if i > 0 && !cands[i-1].below(a) {
 			continue
 		}
 		pool, _ := s.weightedPool(cutWeights(es, a))
-		if pool.Combined > bestScore {
-			best, bestScore = a, pool.Combined
+		if v := pool.LogCalibration + math.Log(pool.Information); v > bestScore {
+			best, bestScore = a, v
 		}
 	}
 	return best
 }
 
-// cutWeights returns w ∝ C·I·1{C ≥ α}, normalised to sum to 1. The caller
-// guarantees that some expert with C·I > 0 has C ≥ α.
-func cutWeights(es []ExpertScore, alpha float64) []float64 {
+// cutWeights returns w ∝ C·I·1{C ≥ α}, normalised to sum to 1, formed as
+// exp(ln C + ln I − max) so that scores below the double range keep their
+// ratios. The caller guarantees that some expert with I > 0 has C ≥ α.
+func cutWeights(es []ExpertScore, alpha score) []float64 {
 	w := make([]float64, len(es))
-	sum := 0.0
+	logs := make([]float64, len(es))
+	top := math.Inf(-1)
 	for i, e := range es {
-		if e.Calibration >= alpha {
-			w[i] = e.Combined
-			sum += w[i]
+		logs[i] = math.Inf(-1)
+		if e.Information > 0 && !scoreOf(e).below(alpha) {
+			logs[i] = e.LogCalibration + math.Log(e.Information)
+			top = math.Max(top, logs[i])
 		}
+	}
+	sum := 0.0
+	for i, l := range logs {
+		w[i] = math.Exp(l - top)
+		sum += w[i]
 	}
 	for i := range w {
 		w[i] /= sum
@@ -525,7 +564,7 @@ func (s *seedSet) weightedPool(w []float64) (PooledScore, []SeedResult) {
 	if pooled.N == 0 {
 		return pooled, res
 	}
-	pooled.Calibration = calibration(counts, pooled.N, s.binP)
+	pooled.Calibration, pooled.LogCalibration = calibrationLog(counts, pooled.N, s.binP)
 	pooled.Information = info / float64(pooled.N)
 	pooled.Combined = pooled.Calibration * pooled.Information
 	return pooled, res

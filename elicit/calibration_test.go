@@ -714,11 +714,13 @@ func TestPartialAnswers(t *testing.T) {
 	}
 }
 
-// TestNoScoredExperts: when every calibration score underflows to 0 no
-// cut-off leaves an expert with weight, and the model says so.
-func TestNoScoredExperts(t *testing.T) {
-	// 400 realisations above q95: 2·N·I = 800 ln 20 ≈ 2397, and
-	// 1 − F_χ²(2397; 3) ≈ e^−1198 underflows to 0.
+// TestScoreBelowTheDoubleRange: a calibration score below the smallest
+// double is still a score. Here one expert has every one of 400
+// realisations above the 95% value: 2·N·I = 800 ln 20 ≈ 2397 and
+// C = e^−1194.6 (R 4.2.2: pchisq(800 * log(20), 3, lower.tail = FALSE,
+// log.p = TRUE) = −1194.6273835608188). It was refused as "every
+// calibration score is 0".
+func TestScoreBelowTheDoubleRange(t *testing.T) {
 	as, real := seedsWithBins(seedProbs, repeatBin(3, 400))
 	var onlyE []SeedAssessment
 	for _, a := range as {
@@ -726,8 +728,71 @@ func TestNoScoredExperts(t *testing.T) {
 			onlyE = append(onlyE, a)
 		}
 	}
-	if _, err := ClassicalModel(onlyE, real, nil, ModelOptions{}); !calHasRule(err, RuleNoScoredExperts) {
-		t.Errorf("got %v, want %q", err, RuleNoScoredExperts)
+	s, err := ClassicalModel(onlyE, real, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := expertScore(t, s, "E")
+	const want = -1194.6273835608188
+	if e.Calibration != 0 || math.Abs(e.LogCalibration-want) > 1e-12*-want || e.Weight != 1 {
+		t.Errorf("E: %+v, want calibration 0, ln %v, weight 1", e, want)
+	}
+	if s.Alpha != 0 || s.LogAlpha == nil || *s.LogAlpha != e.LogCalibration {
+		t.Errorf("α %v, ln α %v: want 0 and E's ln C", s.Alpha, s.LogAlpha)
+	}
+}
+
+// TestManyCalibrationQuestions: with 300 calibration questions two poorly
+// calibrated experts both score below the smallest double, and the better
+// calibrated one keeps the larger weight, in the ratio
+// w_A/w_B = e^(ln C_A − ln C_B)·I_A/I_B. Every realisation is 0, asked at
+// 1/50/99 %; A has 150 realisations below its 1% value and 150 above its
+// 99% value, B 200 and 100. ln C from R 4.2.2's pchisq(…, log.p = TRUE)
+// (testdata/r/pchisq_log_tail_reference.R, its two "cases"). Before, both
+// scores were 0 and the model refused the panel.
+func TestManyCalibrationQuestions(t *testing.T) {
+	probs := []float64{0.01, 0.5, 0.99}
+	above, below := []float64{-3, -2, -1}, []float64{1, 2, 3}
+	var as []SeedAssessment
+	real := map[string]float64{}
+	for i := 0; i < 300; i++ {
+		q := fmt.Sprintf("s%03d", i)
+		real[q] = 0
+		a, b := below, below
+		if i >= 150 {
+			a = above
+		}
+		if i >= 200 {
+			b = above
+		}
+		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
+			SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
+	}
+	for _, alpha := range []*float64{nil, new(float64)} {
+		s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: alpha})
+		if err != nil {
+			t.Fatal(err)
+		}
+		a, b := expertScore(t, s, "A"), expertScore(t, s, "B")
+		for _, c := range []struct {
+			e    ExpertScore
+			want float64
+		}{{a, -1169.9517750719319}, {b, -1186.9344983883962}} {
+			if c.e.Calibration != 0 || math.Abs(c.e.LogCalibration-c.want) > 1e-12*-c.want {
+				t.Errorf("%s: calibration %v, ln %v, want 0 and ln %v (R)", c.e.Expert, c.e.Calibration, c.e.LogCalibration, c.want)
+			}
+		}
+		if alpha != nil {
+			// Both experts weighted: the ratio follows the scores.
+			ratio := math.Exp(-1169.9517750719319+1186.9344983883962) * a.Information / b.Information
+			if !(a.Weight > b.Weight) || calRelErr(a.Weight/b.Weight, ratio) > 1e-9 || math.Abs(a.Weight+b.Weight-1) > 1e-15 {
+				t.Errorf("α = 0: weights A %v, B %v, want ratio %v", a.Weight, b.Weight, ratio)
+			}
+			continue
+		}
+		if !(a.Weight > b.Weight) || math.IsNaN(a.Weight+b.Weight) || math.Abs(a.Weight+b.Weight-1) > 1e-15 {
+			t.Errorf("optimised α: weights A %v, B %v", a.Weight, b.Weight)
+		}
 	}
 }
 

@@ -228,9 +228,13 @@ type PerformanceExpert struct {
 	Name        string  `json:"name"`
 	Answered    int     `json:"answered"`
 	Calibration float64 `json:"calibration"`
-	Information float64 `json:"information"`
-	Combined    float64 `json:"combined"`
-	Weight      float64 `json:"weight"`
+	// LogCalibration is ln Calibration (elicit.ExpertScore), which holds
+	// the score where it is below the smallest double and Calibration
+	// reads 0; absent from older records.
+	LogCalibration float64 `json:"log_calibration,omitempty"`
+	Information    float64 `json:"information"`
+	Combined       float64 `json:"combined"`
+	Weight         float64 `json:"weight"`
 }
 
 // ScorePerformance runs elicit.ClassicalModel on set with the cut-off alpha (nil:
@@ -263,7 +267,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 		es := byKey[SeedExpertKey(e.ID)]
 		p.Experts = append(p.Experts, PerformanceExpert{
 			ExpertID: e.ID, Name: e.Name, Answered: es.N,
-			Calibration: es.Calibration, Information: es.Information, Combined: es.Combined, Weight: es.Weight,
+			Calibration: es.Calibration, LogCalibration: es.LogCalibration, Information: es.Information, Combined: es.Combined, Weight: es.Weight,
 		})
 	}
 	p.Warnings = CalibrationWarnings(len(p.Questions), p.Experts)

@@ -17,9 +17,20 @@ f <- function(v) sprintf("%.17g", v)
 xs <- c(1e-6, 0.5, 3, 10, 50, 100, 300, 700, 1000, 1300, 1400, 1410, 1420,
         1430, 1450, 1480, 1500, 1600, 2000, 3000, 5000, 1e4, 3e4, 1e5, 1e6, 1e7)
 
+# The statistics 2·N·I(s, p) of TestManyCalibrationQuestions: 300
+# questions asked at 1/50/99 %, bins p = (0.01, 0.49, 0.49, 0.01), one
+# expert with 150 realisations below the 1 % value and 150 above the 99 %
+# value, the other with 200 and 100.
+stat <- function(lo, hi, n = 300) {
+  p <- c(0.01, 1 - 0.99)
+  s <- c(lo, hi) / n
+  2 * n * sum(s * log(s / p))
+}
+cases <- c(stat(150, 150), stat(200, 100))
+
 rows <- character(0)
 for (df in c(1, 2, 3, 4, 5, 9, 19, 39)) {
-  for (x in xs) {
+  for (x in c(xs, if (df == 3) cases)) {
     rows <- c(rows, paste(df, f(x), f(pchisq(x, df, lower.tail = FALSE, log.p = TRUE)), sep = ","))
   }
 }
