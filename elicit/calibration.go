@@ -951,3 +951,28 @@ func renameAssessments(err error, names []string) error {
 	}
 	return err
 }
+
+// BelowDouble reports whether a score c with logarithm logC is below the
+// smallest double, so that c reads 0 (or a subnormal with few digits)
+// and only logC holds it.
+func BelowDouble(c, logC float64) bool {
+	return c < minNormal && logC < math.Log(minNormal) && !math.IsInf(logC, -1)
+}
+
+// FormatExp writes e^logV in decimal scientific notation with sig
+// significant figures, such as "7.943e-509" for logV = −1170: a value far
+// below the smallest double, which strconv cannot write.
+func FormatExp(logV float64, sig int) string {
+	if math.IsNaN(logV) || math.IsInf(logV, 0) {
+		return strconv.FormatFloat(math.Exp(logV), 'g', sig, 64)
+	}
+	e := math.Floor(logV / math.Ln10)
+	m := math.Exp(logV - e*math.Ln10)
+	// m lies in [1, 10) but for rounding at either end.
+	s := strconv.FormatFloat(m, 'f', sig-1, 64)
+	if s == strconv.FormatFloat(10, 'f', sig-1, 64) {
+		e++
+		s = strconv.FormatFloat(1, 'f', sig-1, 64)
+	}
+	return s + "e" + strconv.FormatFloat(e, 'f', 0, 64)
+}

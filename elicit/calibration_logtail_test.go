@@ -37,3 +37,26 @@ func TestLogChiSquareSurvivalAgainstR(t *testing.T) {
 		t.Fatalf("only %d rows beyond the double range", beyond)
 	}
 }
+
+// TestFormatExp writes values beyond the double range: e^−1170 is
+// 7.507e-509 (R 4.2.2: exp(-1170 - log(10) * -509) = 7.50682, its
+// mantissa at the decade 10^−509); the others by hand.
+func TestFormatExp(t *testing.T) {
+	for _, c := range []struct {
+		log  float64
+		sig  int
+		want string
+	}{
+		{-1170, 4, "7.507e-509"},
+		{math.Log(2.5e-3), 3, "2.50e-3"},
+		{0, 3, "1.00e0"},
+		{math.Log(9.9996) - 400*math.Ln10, 4, "1.000e-399"},
+	} {
+		if got := FormatExp(c.log, c.sig); got != c.want {
+			t.Errorf("FormatExp(%v, %d) = %q, want %q", c.log, c.sig, got, c.want)
+		}
+	}
+	if !BelowDouble(0, -1170) || BelowDouble(1e-300, math.Log(1e-300)) || BelowDouble(0, math.Inf(-1)) {
+		t.Error("BelowDouble")
+	}
+}

@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"math"
 	"os"
 	"regexp"
 	"strconv"
@@ -467,6 +468,10 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 	if !optimised {
 		alpha = strconv.FormatFloat(s.Alpha, 'g', -1, 64)
 	}
+	below := s.LogAlpha != nil
+	if below {
+		alpha = elicit.FormatExp(*s.LogAlpha, 4)
+	}
 	fmt.Fprintf(w, "Cut-off alpha = %s (%s)\n\n", alpha, how)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "expert\tanswered\tcalibration\tinformation\tcal × inf\tweight")
@@ -477,11 +482,36 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 		if e.Calibration < s.Alpha {
 			digits = elicit.SideDigits(e.Calibration, s.Alpha, 4)
 		}
-		fmt.Fprintf(tw, "%s\t%d\t%.*g\t%.4f\t%.4g\t%.4g\n", e.Expert, e.N, digits, e.Calibration, e.Information, e.Combined, e.Weight)
+		cal, comb := scoreTexts(e.Calibration, e.LogCalibration, e.Information, e.Combined, digits)
+		below = below || elicit.BelowDouble(e.Calibration, e.LogCalibration)
+		fmt.Fprintf(tw, "%s\t%d\t%s\t%.4f\t%s\t%.4g\n", e.Expert, e.N, cal, e.Information, comb, e.Weight)
 	}
 	p := s.Pooled
-	fmt.Fprintf(tw, "%s\t%d\t%.4g\t%.4f\t%.4g\t\n", "pooled (performance weights)", p.N, p.Calibration, p.Information, p.Combined)
-	return tw.Flush()
+	cal, comb := scoreTexts(p.Calibration, p.LogCalibration, p.Information, p.Combined, 4)
+	below = below || elicit.BelowDouble(p.Calibration, p.LogCalibration)
+	fmt.Fprintf(tw, "%s\t%d\t%s\t%.4f\t%s\t\n", "pooled (performance weights)", p.N, cal, p.Information, comb)
+	if err := tw.Flush(); err != nil {
+		return err
+	}
+	if below {
+		_, err := fmt.Fprintln(w, "\nScores below 1e-308, the smallest a double holds, are worked in logarithms and written from them.")
+		return err
+	}
+	return nil
+}
+
+// scoreTexts writes a calibration score and calibration × information,
+// from the score's logarithm where the score is below the smallest
+// double (elicit.FormatExp): never a 0 that is not the score.
+func scoreTexts(c, logC, info, combined float64, digits int) (string, string) {
+	if !elicit.BelowDouble(c, logC) {
+		return strconv.FormatFloat(c, 'g', digits, 64), strconv.FormatFloat(combined, 'g', 4, 64)
+	}
+	comb := "0"
+	if info > 0 {
+		comb = elicit.FormatExp(logC+math.Log(info), 4)
+	}
+	return elicit.FormatExp(logC, 4), comb
 }
 
 // writeLeaveOneOut prints the robustness report as a table.

@@ -623,3 +623,52 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 		}
 	}
 }
+
+// TestCalibrateScoresBelowTheDoubleRange: 300 calibration questions at
+// 1/50/99 %, every realisation 0; A has 150 below its 1% value and 150
+// above its 99% value, B 200 and 100, so both calibration scores are far
+// below the smallest double: ln C = −1169.9517750719319 and
+// −1186.9344983883962 from R 4.2.2's pchisq(…, log.p = TRUE)
+// (testdata/r/pchisq_log_tail_reference.R), that is 7.878e-509 and
+// 3.318e-516 (R: exp(lnC + 509·log(10)) = 7.87771, exp(lnC + 516·log(10))
+// = 3.31816). The command refused the panel ("every calibration score is
+// 0"); it now scores it, A above B, and writes the scores, not 0.
+func TestCalibrateScoresBelowTheDoubleRange(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("expert,question,realization,q01,q50,q99\n")
+	for i := 0; i < 300; i++ {
+		a, bq := "1,2,3", "1,2,3"
+		if i >= 150 {
+			a = "-3,-2,-1"
+		}
+		if i >= 200 {
+			bq = "-3,-2,-1"
+		}
+		fmt.Fprintf(&b, "A,s%03d,0,%s\nB,s%03d,0,%s\n", i, a, i, bq)
+	}
+	path := filepath.Join(t.TempDir(), "many.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", path, "--alpha", "0")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"7.878e-509", "3.318e-516", "Scores below 1e-308"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+	got := runCalibrateJSON(t, "--input", path, "--alpha", "0")
+	w := map[string]float64{}
+	for _, e := range got.Experts {
+		w[e.Expert] = *e.Weight
+	}
+	// The information scores are equal (each expert's quantiles mirror
+	// the other's on a range symmetric about 0), so the weights stand in
+	// the ratio of the calibration scores, e^16.98.
+	ratio := math.Exp(-1169.9517750719319 + 1186.9344983883962)
+	if !(w["A"] > w["B"]) || math.Abs(w["A"]/w["B"]/ratio-1) > 1e-9 {
+		t.Errorf("weights %v, want A/B = %v", w, ratio)
+	}
+}
