@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"math"
 	"strconv"
+	"strings"
 )
 
 // Limits of every quick construction: α and β in [MinPriorShape,
@@ -247,7 +248,67 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 	if ess := a + b; ess > NearCertaintyESS {
 		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})
 	}
+	if m, ok := beyondDouble(d, proportion); ok {
+		w = append(w, Warning{WarnBeyondDouble, m})
+	}
 	return w
+}
+
+// beyondDouble says which of the 5%, 50% and 95% points lie nearer a
+// bound than a double holds, with their values: for Beta(2e-4, 2e-4) the
+// 5% point is about 1e-5016, which a double holds only as 0 (and the 95%
+// point 1 − 1e-5016, which it holds as 1). Nothing shown may be a 0 that
+// is not the value without saying so. Only a shape below 1 can put a
+// point there.
+func beyondDouble(d Beta, proportion bool) (string, bool) {
+	if !shapeBelowOne(d.Alpha) && !shapeBelowOne(d.Beta) {
+		return "", false
+	}
+	var items []string
+	for _, p := range []float64{0.05, 0.5, 0.95} {
+		name := percentOf(p) + "% point"
+		if x := d.Quantile(p); x < minNormal {
+			v := FormatExp(logTinyQuantile(d, p), 2)
+			if proportion {
+				items = append(items, "the "+name+" is about "+v)
+			} else {
+				items = append(items, "the "+name+" lies about "+v+" of the range above the lower bound")
+			}
+			continue
+		}
+		mirror := Beta{Alpha: d.Beta, Beta: d.Alpha}
+		if y := mirror.Quantile(1 - p); y < 0x1p-53 {
+			ly := math.Log(y)
+			if y < minNormal {
+				ly = logTinyQuantile(mirror, 1-p)
+			}
+			v := FormatExp(ly, 2)
+			if proportion {
+				items = append(items, "the "+name+" is about 1 − "+v)
+			} else {
+				items = append(items, "the "+name+" lies about "+v+" of the range below the upper bound")
+			}
+		}
+	}
+	if len(items) == 0 {
+		return "", false
+	}
+	how := "it is shown as the bound itself"
+	if len(items) > 1 {
+		how = "each is shown as its bound"
+	}
+	s := strings.Join(items, ", and ")
+	return strings.ToUpper(s[:1]) + s[1:] + ": nearer the bound than a double can hold, so " + how + ".", true
+}
+
+// logTinyQuantile is ln x of d's p-quantile x where x is below the
+// smallest normal double, from the leading term of the incomplete beta
+// function at 0, I_x(α, β) = x^α (1−x)^β F(α+β, 1; α+1; x)/(α B(α, β))
+// (DLMF 8.17.8), whose factors after x^α are 1 to within x:
+//
+//	ln x = (ln p + ln α + ln B(α, β))/α.
+func logTinyQuantile(d Beta, p float64) float64 {
+	return (math.Log(p) + math.Log(d.Alpha) + lnBeta(d.Alpha, d.Beta)) / d.Alpha
 }
 
 // percentOf writes a probability as a percentage to 12 significant

@@ -65,6 +65,10 @@ const (
 	WarnTailMisfit WarningCode = "tail_misfit"
 	// WarnNearCertainty: α+β exceeds NearCertaintyESS.
 	WarnNearCertainty WarningCode = "near_certainty"
+	// WarnBeyondDouble: a prior's 5%, 50% or 95% point lies nearer a
+	// bound than a double can hold (shapes far below 1), so that it
+	// shows as the bound; the warning gives its value.
+	WarnBeyondDouble WarningCode = "beyond_double"
 )
 
 // Warning is one caution about a fit; Message is plain language for a

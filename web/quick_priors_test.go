@@ -213,3 +213,20 @@ func TestQuickIntervalWhenOnlyTheQuantileMatchExists(t *testing.T) {
 		t.Errorf("recording the quantile match: status %d", res.StatusCode)
 	}
 }
+
+// TestQuickPriorBeyondDoubleIsSaid: mean 0.5 and sd 0.4999 make
+// Beta(2.0006e-4, 2.0006e-4), whose 5% point is about 3.2e-4999 (DLMF
+// 8.17.8's leading term, evaluated in R 4.2.2: log10 −4998.5002), shown
+// as 0. The page showed "0, 0.5, 1" and nothing else; it now says why,
+// with the values, as `parley prior` does.
+func TestQuickPriorBeyondDoubleIsSaid(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := strconv.FormatInt(qs[0].ID, 10)
+	res, body := h.get(quickPriorsPath(ws.ID) + "?question=" + q + "&construction=mean_sd&c_mean=0.5&c_sd=0.4999")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("status %d", res.StatusCode)
+	}
+	if !strings.Contains(body, htmlEscape("The 5% point is about 3.2e-4999, and the 95% point is about 1 − 3.2e-4999")) {
+		t.Errorf("page does not say where the 5%% and 95%% points are:\n%s", body)
+	}
+}

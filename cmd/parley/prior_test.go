@@ -5,6 +5,7 @@ import (
 	"encoding/json"
 	"math"
 	"os/exec"
+	"slices"
 	"strings"
 	"testing"
 
@@ -256,5 +257,37 @@ func TestPriorTextCoverageShortOfAll(t *testing.T) {
 	}
 	if strings.Contains(out, "100%") {
 		t.Errorf("a coverage short of 1 written as 100%%:\n%s", out)
+	}
+}
+
+// TestPriorPercentilesBeyondDouble: `parley prior --mean 0.5 --sd 0.4999`
+// makes Beta(2.0006e-4, 2.0006e-4), whose 5% point is about 3.2e-4999
+// (DLMF 8.17.8's leading term, evaluated in R 4.2.2: log10 −4998.5002) and
+// 95% point 1 minus that. It printed "5% 0 … 95% 1" and nothing else; the
+// text and the JSON now say that these are the bounds a double holds and
+// give the values.
+func TestPriorPercentilesBeyondDouble(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "prior", "--mean", "0.5", "--sd", "0.4999")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"5% 0, 50% 0.5, 95% 1 (a point nearer its bound than a double holds is shown as the bound",
+		"The 5% point is about 3.2e-4999, and the 95% point is about 1 − 3.2e-4999"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text lacks %q:\n%s", want, out)
+		}
+	}
+	code, out, errOut = runCLI(t, "", "prior", "--mean", "0.5", "--sd", "0.4999", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Q05      float64  `json:"q05"`
+		Codes    []string `json:"warning_codes"`
+		Warnings []string `json:"warnings"`
+	}
+	decodeJSON(t, out, &got)
+	if got.Q05 != 0 || !slices.Contains(got.Codes, "beyond_double") || !strings.Contains(strings.Join(got.Warnings, " "), "3.2e-4999") {
+		t.Errorf("JSON q05 %v, codes %v, warnings %v", got.Q05, got.Codes, got.Warnings)
 	}
 }
