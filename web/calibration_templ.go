@@ -894,7 +894,7 @@ func scoresSection(v calibrationView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = chart.Scores(scoresPicture("weight-map", p.Experts, p.Pooled, p.Alpha)).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = chart.Scores(scoresPicture("weight-map", p.Experts, p.Pooled, p.Alpha, p.LogAlpha)).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -903,9 +903,9 @@ func scoresSection(v calibrationView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var45 string
-			templ_7745c5c3_Var45, templ_7745c5c3_Err = templ.JoinStringErrs(alphaSentence(p.Alpha, p.AlphaRule))
+			templ_7745c5c3_Var45, templ_7745c5c3_Err = templ.JoinStringErrs(alphaSentence(p.Alpha, p.LogAlpha, p.AlphaRule))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 162, Col: 43}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 162, Col: 55}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var45))
 			if templ_7745c5c3_Err != nil {
@@ -960,7 +960,7 @@ func scoresSection(v calibrationView) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		if p := v.Perf; p != nil {
-			templ_7745c5c3_Err = scoresTable("scores-table", p.Experts, p.Pooled, p.Alpha).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = scoresTable("scores-table", p.Experts, p.Pooled, p.Alpha, p.LogAlpha).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1019,7 +1019,7 @@ func scoresSection(v calibrationView) templ.Component {
 
 // scoresTable gives each expert's scores and weight with why, then the
 // performance-weighted pool's own scores in a sentence.
-func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.PooledScore, alpha float64) templ.Component {
+func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.PooledScore, alpha float64, logAlpha *float64) templ.Component {
 	return templruntime.GeneratedTemplate(func(templ_7745c5c3_Input templruntime.GeneratedComponentInput) (templ_7745c5c3_Err error) {
 		templ_7745c5c3_W, ctx := templ_7745c5c3_Input.Writer, templ_7745c5c3_Input.Context
 		if templ_7745c5c3_CtxErr := ctx.Err(); templ_7745c5c3_CtxErr != nil {
@@ -1053,7 +1053,7 @@ func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		for _, e := range scoreLines(experts, alpha) {
+		for _, e := range scoreLines(experts, alpha, logAlpha) {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 92, "<tr><th scope=\"row\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
@@ -1201,9 +1201,9 @@ func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var61 string
-			templ_7745c5c3_Var61, templ_7745c5c3_Err = templ.JoinStringErrs(fv(pooled.Calibration))
+			templ_7745c5c3_Var61, templ_7745c5c3_Err = templ.JoinStringErrs(calibrationText(pooled.Calibration, pooled.LogCalibration))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 218, Col: 53}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 218, Col: 89}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var61))
 			if templ_7745c5c3_Err != nil {
@@ -1216,7 +1216,7 @@ func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.
 			var templ_7745c5c3_Var62 string
 			templ_7745c5c3_Var62, templ_7745c5c3_Err = templ.JoinStringErrs(fv(pooled.Information))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 218, Col: 116}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 218, Col: 152}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var62))
 			if templ_7745c5c3_Err != nil {
@@ -1227,9 +1227,9 @@ func scoresTable(id string, experts []workshop.PerformanceExpert, pooled elicit.
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var63 string
-			templ_7745c5c3_Var63, templ_7745c5c3_Err = templ.JoinStringErrs(fv(pooled.Combined))
+			templ_7745c5c3_Var63, templ_7745c5c3_Err = templ.JoinStringErrs(pooledCombinedText(pooled.Calibration, pooled.LogCalibration, pooled.Information, pooled.Combined))
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 219, Col: 52}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 219, Col: 131}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var63))
 			if templ_7745c5c3_Err != nil {
@@ -2055,9 +2055,9 @@ func recordPerformance(r record.Record) templ.Component {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var105 string
-				templ_7745c5c3_Var105, templ_7745c5c3_Err = templ.JoinStringErrs(alphaSentence(p.Alpha, p.AlphaRule))
+				templ_7745c5c3_Var105, templ_7745c5c3_Err = templ.JoinStringErrs(alphaSentence(p.Alpha, p.LogAlpha, p.AlphaRule))
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 373, Col: 42}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/calibration.templ`, Line: 373, Col: 54}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var105))
 				if templ_7745c5c3_Err != nil {
@@ -2086,11 +2086,11 @@ func recordPerformance(r record.Record) templ.Component {
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = chart.Scores(scoresPicture("record-weight-map", p.Experts, p.Pooled, p.Alpha)).Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = chart.Scores(scoresPicture("record-weight-map", p.Experts, p.Pooled, p.Alpha, p.LogAlpha)).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = scoresTable("record-scores", p.Experts, p.Pooled, p.Alpha).Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = scoresTable("record-scores", p.Experts, p.Pooled, p.Alpha, p.LogAlpha).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
@@ -2181,11 +2181,11 @@ func recordPerformance(r record.Record) templ.Component {
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = chart.Scores(scoresPicture("record-weight-map", basis.Experts, basis.Pooled, basis.Alpha)).Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = chart.Scores(scoresPicture("record-weight-map", basis.Experts, basis.Pooled, basis.Alpha, basis.LogAlpha)).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = scoresTable("record-scores", basis.Experts, basis.Pooled, basis.Alpha).Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = scoresTable("record-scores", basis.Experts, basis.Pooled, basis.Alpha, basis.LogAlpha).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}

@@ -35,13 +35,13 @@ func namesOrNobody(names []string) string {
 }
 
 // alphaSentence says what the cut-off is and how it was chosen.
-func alphaSentence(alpha float64, rule string) string {
+func alphaSentence(alpha float64, logAlpha *float64, rule string) string {
 	if rule == workshop.AlphaFixed {
 		// As typed: to four figures a cut-off could read as the score
 		// it leaves out.
 		return "Cut-off α = " + input.Typed(alpha, false) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
 	}
-	return "Cut-off α = " + fv(alpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
+	return "Cut-off α = " + alphaText(alpha, logAlpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
 		"scored as if it were an expert, does best on these questions. Experts whose calibration score is below it get weight 0."
 }
 
@@ -82,26 +82,38 @@ type scoreLine struct {
 
 // scoreLines explains each expert's weight under the cut-off alpha: the
 // product calibration × information that earns it, or the reason it is 0.
-func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine {
-	total := 0.0
+func scoreLines(experts []workshop.PerformanceExpert, alpha float64, logAlpha *float64) []scoreLine {
+	total, tiny := 0.0, false
 	for _, e := range experts {
 		if e.Weight > 0 {
 			total += e.Combined
+			tiny = tiny || elicit.BelowDouble(e.Calibration, e.LogCalibration)
 		}
 	}
 	out := make([]scoreLine, len(experts))
 	for i, e := range experts {
 		l := scoreLine{PerformanceExpert: e, CalibrationText: fv(e.Calibration)}
-		if e.Calibration < alpha {
+		below := belowCut(e, alpha, logAlpha)
+		switch {
+		case elicit.BelowDouble(e.Calibration, e.LogCalibration):
+			l.CalibrationText = elicit.FormatExp(e.LogCalibration, 4)
+		case below:
 			l.CalibrationText = chart.FormatValueBeside(e.Calibration, alpha)
 		}
 		switch {
 		case e.Answered == 0:
 			l.Why = "answered no scored calibration question, so has no score and weight 0"
+		case e.Weight > 0 && tiny:
+			// Scores below the smallest double: the products are written
+			// from their logarithms, and the share is the weight itself.
+			l.Why = "earns " + l.CalibrationText + " × " + fv(e.Information) + " = " + combinedText(e) +
+				", " + pct(e.Weight) + " of what the experts at or above the cut-off earn"
 		case e.Weight > 0:
 			l.Why = "earns " + fv(e.Calibration) + " × " + fv(e.Information) + " = " + fv(e.Combined) +
 				" of the " + fv(total) + " earned by the experts at or above the cut-off"
-		case e.Calibration < alpha:
+		case below && (logAlpha != nil || elicit.BelowDouble(e.Calibration, e.LogCalibration)):
+			l.Why = "calibration score " + l.CalibrationText + " is below the cut-off " + alphaText(alpha, logAlpha) + ", so weight 0"
+		case below:
 			// Each with the figures that keep it on its own side of the
 			// other: a cut-off typed as a score is shown (0.1878 for
 			// 0.187753) lies above that score.
@@ -116,17 +128,63 @@ func scoreLines(experts []workshop.PerformanceExpert, alpha float64) []scoreLine
 }
 
 // scoresPicture is the weight map of the experts who have scores.
-func scoresPicture(id string, experts []workshop.PerformanceExpert, pooled elicit.PooledScore, alpha float64) chart.ScoresView {
-	v := chart.ScoresView{ID: id, Alpha: alpha}
+func scoresPicture(id string, experts []workshop.PerformanceExpert, pooled elicit.PooledScore, alpha float64, logAlpha *float64) chart.ScoresView {
+	v := chart.ScoresView{ID: id, Alpha: alpha, LogAlpha: logAlpha}
 	for _, e := range experts {
 		if e.Answered > 0 {
-			v.Rows = append(v.Rows, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, Information: e.Information, Weight: e.Weight})
+			v.Rows = append(v.Rows, chart.ScoreRow{Expert: e.Name, Calibration: e.Calibration, LogCalibration: e.LogCalibration, Information: e.Information, Weight: e.Weight})
 		}
 	}
 	if pooled.N > 0 {
-		v.Pooled = &chart.ScoreRow{Expert: "performance-weighted pool", Calibration: pooled.Calibration, Information: pooled.Information}
+		v.Pooled = &chart.ScoreRow{Expert: "performance-weighted pool", Calibration: pooled.Calibration, LogCalibration: pooled.LogCalibration, Information: pooled.Information}
 	}
 	return v
+}
+
+// belowCut reports whether an expert's calibration score is below the
+// cut-off, comparing logarithms where either is below the smallest
+// double (as elicit.ClassicalModel cuts).
+func belowCut(e workshop.PerformanceExpert, alpha float64, logAlpha *float64) bool {
+	tiny := elicit.BelowDouble(e.Calibration, e.LogCalibration)
+	switch {
+	case logAlpha != nil && tiny:
+		return e.LogCalibration < *logAlpha
+	case logAlpha != nil:
+		return false
+	case tiny:
+		return alpha > 0
+	}
+	return e.Calibration < alpha
+}
+
+// alphaText writes the cut-off, from its logarithm where it is below the
+// smallest double.
+func alphaText(alpha float64, logAlpha *float64) string {
+	if logAlpha != nil {
+		return elicit.FormatExp(*logAlpha, 4)
+	}
+	return fv(alpha)
+}
+
+// calibrationText writes a calibration score, from its logarithm where it
+// is below the smallest double: never a 0 that is not the score.
+func calibrationText(c, logC float64) string {
+	if elicit.BelowDouble(c, logC) {
+		return elicit.FormatExp(logC, 4)
+	}
+	return fv(c)
+}
+
+// combinedText writes calibration × information as calibrationText does.
+func combinedText(e workshop.PerformanceExpert) string {
+	return pooledCombinedText(e.Calibration, e.LogCalibration, e.Information, e.Combined)
+}
+
+func pooledCombinedText(c, logC, info, combined float64) string {
+	if elicit.BelowDouble(c, logC) && info > 0 {
+		return elicit.FormatExp(logC+math.Log(info), 4)
+	}
+	return fv(combined)
 }
 
 // rerunLine is one rerun of the robustness analysis in the table behind

@@ -24,10 +24,13 @@ const BasisClassicalModel = "classical_model"
 // with Overshoot and the cut-off Alpha fixed (or optimised, when
 // AlphaRule is AlphaOptimised), gives Experts' scores and weights again.
 type WeightBasis struct {
-	Method    string    `json:"method"` // BasisClassicalModel
-	Alpha     float64   `json:"alpha"`
-	AlphaRule string    `json:"alpha_rule"` // AlphaOptimised or AlphaFixed
-	Overshoot float64   `json:"overshoot"`  // the k of the intrinsic range
+	Method    string  `json:"method"` // BasisClassicalModel
+	Alpha     float64 `json:"alpha"`
+	AlphaRule string  `json:"alpha_rule"` // AlphaOptimised or AlphaFixed
+	// LogAlpha is ln α when α is a calibration score below the smallest
+	// double, so that Alpha reads 0 (elicit.Scores).
+	LogAlpha  *float64  `json:"log_alpha,omitempty"`
+	Overshoot float64   `json:"overshoot"` // the k of the intrinsic range
 	Probs     []float64 `json:"probs"`
 	Answers   string    `json:"answers"` // which answers were scored (AnswersRule)
 	// Questions are the scored calibration questions, in workshop order.
@@ -65,7 +68,7 @@ type BasisAnswer struct {
 // ScorePerformance computed from set.
 func NewWeightBasis(set CalibrationSet, p Performance) WeightBasis {
 	b := WeightBasis{
-		Method: BasisClassicalModel, Alpha: p.Alpha, AlphaRule: p.AlphaRule, Overshoot: elicit.DefaultOvershoot,
+		Method: BasisClassicalModel, Alpha: p.Alpha, LogAlpha: p.LogAlpha, AlphaRule: p.AlphaRule, Overshoot: elicit.DefaultOvershoot,
 		Probs: append([]float64(nil), p.Probs...), Answers: p.Answers,
 		Questions: []BasisQuestion{}, CalibrationAnswers: []BasisAnswer{},
 		Skipped:  []SkippedQuestion{},

@@ -195,9 +195,12 @@ type Performance struct {
 	// Alpha is the calibration cut-off; AlphaRule says whether it was
 	// chosen to maximise the performance-weighted pool's combined score
 	// ("optimised") or set by the facilitator ("fixed").
-	Alpha     float64   `json:"alpha"`
-	AlphaRule string    `json:"alpha_rule"`
-	Probs     []float64 `json:"probs"`
+	Alpha     float64 `json:"alpha"`
+	AlphaRule string  `json:"alpha_rule"`
+	// LogAlpha is ln α when α is a calibration score below the smallest
+	// double, so that Alpha reads 0 (elicit.Scores).
+	LogAlpha *float64  `json:"log_alpha,omitempty"`
+	Probs    []float64 `json:"probs"`
 	// Questions are the IDs of the scored calibration questions.
 	Questions []int64           `json:"calibration_questions"`
 	Skipped   []SkippedQuestion `json:"skipped"`
@@ -248,7 +251,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	if err != nil {
 		return Performance{}, err
 	}
-	p := Performance{Alpha: sc.Alpha, AlphaRule: AlphaOptimised, Probs: set.Probs, Skipped: set.Skipped,
+	p := Performance{Alpha: sc.Alpha, LogAlpha: sc.LogAlpha, AlphaRule: AlphaOptimised, Probs: set.Probs, Skipped: set.Skipped,
 		Questions: make([]int64, len(set.Questions)), Pooled: sc.Pooled, Answers: AnswersRule}
 	if alpha != nil {
 		p.AlphaRule = AlphaFixed

@@ -17,8 +17,11 @@ import (
 type ScoreRow struct {
 	Expert      string
 	Calibration float64
-	Information float64
-	Weight      float64
+	// LogCalibration is ln Calibration, which holds a score below the
+	// smallest double (Calibration 0); such a score is written from it.
+	LogCalibration float64
+	Information    float64
+	Weight         float64
 }
 
 // ScoresView is the picture of who earns weight under Cooke's classical
@@ -28,10 +31,13 @@ type ScoreRow struct {
 // of their disc and in their label. Pooled, when set, is the
 // performance-weighted pool scored like an expert (its Weight unused).
 type ScoresView struct {
-	ID     string
-	Rows   []ScoreRow
-	Alpha  float64
-	Pooled *ScoreRow
+	ID    string
+	Rows  []ScoreRow
+	Alpha float64
+	// LogAlpha is ln α when α is a score below the smallest double, so
+	// that Alpha reads 0 though experts are left out.
+	LogAlpha *float64
+	Pooled   *ScoreRow
 }
 
 // Layout of the weight map, in SVG units. Text is sized so that at the
@@ -205,7 +211,15 @@ func newScoresModel(v ScoresView) scoresModel {
 		}
 	}
 	alphaText := formatSig(alpha, alphaDigits)
-	scoreText := func(c float64) string {
+	cutting := alpha > 0
+	if v.LogAlpha != nil {
+		alphaText, cutting = elicit.FormatExp(*v.LogAlpha, 3), true
+	}
+	scoreText := func(r ScoreRow) string {
+		if elicit.BelowDouble(r.Calibration, r.LogCalibration) {
+			return elicit.FormatExp(r.LogCalibration, 3)
+		}
+		c := r.Calibration
 		if c < alpha {
 			return formatSig(c, elicit.SideDigits(c, alpha, 3))
 		}
@@ -216,7 +230,7 @@ func newScoresModel(v ScoresView) scoresModel {
 	cx, _ := xOf(alpha)
 	m.Cut = mapCut{X: coord(cx), Top: coord(f.Top), Bottom: coord(f.bottom()), Left: coord(f.Left), ShadeW: coord(cx - f.Left), ShadeH: coord(f.Height),
 		Shade: alpha > 0 && cx > f.Left, Value: fmt.Sprint(alpha), LabelY: coord(f.Top - 10)}
-	if alpha > 0 {
+	if cutting {
 		m.Cut.Label = "cut-off α = " + alphaText
 	} else {
 		m.Cut.Label = "cut-off α = 0: no expert is left out"
@@ -276,7 +290,7 @@ func newScoresModel(v ScoresView) scoresModel {
 		}
 		label := r.Expert + " · " + FormatPercent(r.Weight)
 		if clipped {
-			label += " (calibration " + scoreText(r.Calibration) + ")"
+			label += " (calibration " + scoreText(r) + ")"
 		}
 		b := placeLabel(label, x, y, rad, f, placed)
 		placed = append(placed, b)
@@ -297,19 +311,23 @@ func newScoresModel(v ScoresView) scoresModel {
 	var words []string
 	for _, r := range rows {
 		words = append(words, fmt.Sprintf("%s: calibration %s, information %s, weight %s", r.Expert,
-			scoreText(r.Calibration), formatSig(r.Information, 3), FormatPercent(r.Weight)))
+			scoreText(r), formatSig(r.Information, 3), FormatPercent(r.Weight)))
 	}
 	m.Title = "Who earns weight: calibration against information"
 	cut := fmt.Sprintf("Experts left of the cut-off α = %s get weight 0", alphaText)
-	if alpha == 0 {
+	if !cutting {
 		cut = "The cut-off is 0, so no expert is left out"
 	}
 	m.Desc = "Each disc is an expert: further right means better calibrated (the true values fell where their quantiles said they would), " +
 		"higher means more informative (narrower ranges than the panel's). " + cut + "; the others share the weight in proportion to " +
 		"calibration × information, shown by the disc's area. " + strings.Join(words, "; ") + "."
 	if pooled != nil {
+		poolText := formatScore(pooled.Calibration)
+		if elicit.BelowDouble(pooled.Calibration, pooled.LogCalibration) {
+			poolText = elicit.FormatExp(pooled.LogCalibration, 3)
+		}
 		m.Desc += fmt.Sprintf(" The diamond is the performance-weighted pool scored as if it were an expert: calibration %s, information %s.",
-			formatScore(pooled.Calibration), formatSig(pooled.Information, 3))
+			poolText, formatSig(pooled.Information, 3))
 	}
 	return m
 }
