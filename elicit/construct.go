@@ -298,7 +298,7 @@ func beyondDouble(d Beta, proportion bool) (string, bool) {
 		how = "each is shown as its bound"
 	}
 	s := strings.Join(items, ", and ")
-	return strings.ToUpper(s[:1]) + s[1:] + ": nearer the bound than a double can hold, so " + how + ".", true
+	return strings.ToUpper(s[:1]) + s[1:] + ": nearer the bound than the computer's numbers (double precision) can hold, so " + how + ".", true
 }
 
 // logTinyQuantile is ln x of d's p-quantile x where x is below the
