@@ -16,9 +16,11 @@ import (
 // Reading an expert's answer from the form, in the expert's own terms:
 // a proportion question takes 0.05 or 5% (and, with the form's
 // percentage choice, a plain 5 as 5%); the four-value confidence is a
-// percentage, 80 or 80%; an empty chips bin holds none. Every field's
-// problem is found at once (elicit's Question.Problems) and said in words
-// written for the expert, with the value as they typed it.
+// percentage, 80 or 80%; an empty chips bin holds none. The number rules
+// are workshop's (ParseAnswerNumber, ParseConfidence), which the answer
+// sheet reads by too. Every field's problem is found at once (elicit's
+// Question.Problems) and said in words written for the expert, with the
+// value as they typed it.
 
 // Form values of the proportion question's unit choice.
 const (
@@ -29,61 +31,6 @@ const (
 // isProportion reports whether q's values are proportions, which experts
 // may type as percentages.
 func isProportion(q workshop.Question) bool { return q.IsProportion() }
-
-// keptInPercent says an answer is kept as typed in percent: a proportion
-// whose every value (typed of count) carried a % sign or was read in the
-// percent unit. Chips are counts.
-func keptInPercent(q workshop.Question, typed, count int) bool {
-	return isProportion(q) && q.Format != workshop.FormatChips && count > 0 && typed == count
-}
-
-// rulePercentHere refuses a % sign where the question's values are not
-// proportions.
-const rulePercentHere elicit.Rule = "is not a percentage: this question's values are not proportions"
-
-// parseAnswerNumber reads one value of an answer: a plain number, or for
-// a proportion question a percentage (5% → 0.05; a plain 5 too when
-// asPercent). typedPercent reports that it was read as a percentage.
-func parseAnswerNumber(name, raw string, q workshop.Question, asPercent bool) (v float64, typedPercent bool, err error) {
-	s := strings.TrimSpace(raw)
-	if rest, ok := strings.CutSuffix(s, "%"); ok {
-		if !isProportion(q) {
-			return 0, false, &elicit.InputError{Field: name, Rule: rulePercentHere}
-		}
-		v, err := input.Percent(name, rest)
-		return v, true, err
-	}
-	if asPercent && isProportion(q) {
-		v, err = input.Percent(name, s)
-		return v, err == nil, err
-	}
-	v, err = input.Number(name, s)
-	return v, false, err
-}
-
-// ruleConfidencePercent refuses a confidence typed as a fraction.
-const ruleConfidencePercent elicit.Rule = "is a percentage"
-
-// parseConfidence reads the four-value confidence: 80 or 80% for 80%. A
-// value at or below 1 without a % sign is refused: 0.8 almost always
-// means 80%, and reading it as 0.8% would give a nonsense curve.
-func parseConfidence(raw string) (float64, error) {
-	s := strings.TrimSpace(raw)
-	rest, hadSign := strings.CutSuffix(s, "%")
-	v, err := input.Number("confidence", rest)
-	if err != nil {
-		return 0, err
-	}
-	if !hadSign && v > 0 && v <= 1 {
-		if v < 0.01 {
-			// No sensible percentage to suggest (1e-320 would read
-			// "did you mean 1e-318%?").
-			return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent}
-		}
-		return 0, &elicit.InputError{Field: "confidence", Rule: ruleConfidencePercent, Detail: chart.FormatValue(v * 100)}
-	}
-	return input.Percent("confidence", rest)
-}
 
 // readAnswer parses the posted form into the question's format, then
 // lets elicit judge it: every field's problem at once (Problems), then
@@ -97,7 +44,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 	asPercent := isProportion(q) && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
-		v, pct, err := parseAnswerNumber(name, f.Value(name), q, asPercent)
+		v, pct, err := workshop.ParseAnswerNumber(name, f.Value(name), q, asPercent)
 		if err != nil {
 			f.set(name, expertWords(q, f, err))
 		}
@@ -112,7 +59,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 		a.Lowest = value("lowest")
 		a.Highest = value("highest")
 		a.Best = value("best")
-		c, err := parseConfidence(f.Value("confidence"))
+		c, err := workshop.ParseConfidence(f.Value("confidence"))
 		if err != nil {
 			f.set("confidence", expertWords(q, f, err))
 		}
@@ -136,7 +83,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 			a.Values[i] = value(fmt.Sprintf("values[%d]", i))
 		}
 	}
-	a.Percent = keptInPercent(q, typed, count)
+	a.Percent = workshop.KeptInPercent(q, typed, count)
 	unread := len(f.Errors) > before
 	if ps := q.Problems(a); len(ps) > 0 {
 		// Beside the fields that could be read, every problem at once; a
@@ -193,10 +140,6 @@ func comparedWith(field string) string {
 	return ""
 }
 
-// confidenceMaxPercent is the largest confidence the four-value form
-// takes, in percent: elicit.MaxCentral, 1 − 2e-12 (elicit.RuleCentralTails).
-const confidenceMaxPercent = "99.9999999998"
-
 // answerField is the form field of an elicit field for q's form, or ""
 // (the form as a whole) for a field the form does not show: a rule about
 // all the chips together, or any field of another format, so that no
@@ -207,10 +150,10 @@ func answerField(q workshop.Question, field string) string {
 	case workshop.FormatInterval:
 		shown = field == "lowest" || field == "best" || field == "highest" || field == "confidence"
 	case workshop.FormatChips:
-		i, ok := fieldIndex(field)
+		i, ok := workshop.FieldIndex(field)
 		shown = ok && strings.HasPrefix(field, "counts[") && i < len(q.BinEdges)-1
 	default:
-		i, ok := fieldIndex(field)
+		i, ok := workshop.FieldIndex(field)
 		shown = ok && strings.HasPrefix(field, "values[") && i < len(q.Probs)
 	}
 	if !shown {
@@ -243,9 +186,9 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 		return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
 	case input.RuleUnderflow:
 		return "“" + input.Clip(typed, 24) + "” is too close to 0 for Parley to hold: it would be read as 0. Please check it."
-	case rulePercentHere:
+	case workshop.RulePercentHere:
 		return "This question's values run " + between + ", not as percentages: please type the value without %."
-	case ruleConfidencePercent:
+	case workshop.RuleConfidencePercent:
 		if ie.Detail == "" {
 			return "Type the confidence as a percentage, such as 80 for 80%; you typed " + typed + "."
 		}
@@ -263,7 +206,7 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 			return "Must be more than 0% and less than 100%; you typed " + typed + "."
 		}
 	case elicit.RuleCentralTails:
-		return "Must be at most " + confidenceMaxPercent + "%, which leaves a sliver of chance outside your range; you typed " + typed + "."
+		return "Must be at most " + workshop.ConfidenceMaxPercent + "%, which leaves a sliver of chance outside your range; you typed " + typed + "."
 	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
 		return "Type a whole number of chips, such as 3, or leave it empty for none."
 	case workshop.RuleChipsExceeded:

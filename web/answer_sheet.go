@@ -286,13 +286,13 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		own[c] = true
 		if cell(c) == "" {
 			if _, present := col[c]; !present || q.Format != workshop.FormatChips {
-				return row, sheetErr(line, c, ruleSheetMissing, "Q%d is asked as %s", q.Position, formatLabel(q))
+				return row, sheetErr(line, c, ruleSheetMissing, "Q%d is asked as %s", q.Position, workshop.FormatLabel(q))
 			}
 		}
 	}
 	for name := range col {
 		if !own[name] && cell(name) != "" {
-			return row, sheetErr(line, name, ruleSheetColumn, "Q%d is asked as %s", q.Position, formatLabel(q))
+			return row, sheetErr(line, name, ruleSheetColumn, "Q%d is asked as %s", q.Position, workshop.FormatLabel(q))
 		}
 	}
 	// Each cell by the form's own number rules, the answer by elicit's.
@@ -301,7 +301,7 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 	// answer is kept as typed in percent when every value was.
 	typed, count := 0, 0
 	num := func(c string) (float64, error) {
-		v, pct, err := parseAnswerNumber(c, cell(c), q, false)
+		v, pct, err := workshop.ParseAnswerNumber(c, cell(c), q, false)
 		count++
 		if pct {
 			typed++
@@ -321,9 +321,9 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 		}
 		// In percent, by the expert's form's own reading: with or without
 		// its sign, and 0.8 refused as almost surely meaning 80%.
-		if a.Confidence, err = parseConfidence(cell("confidence")); err != nil {
+		if a.Confidence, err = workshop.ParseConfidence(cell("confidence")); err != nil {
 			var ie *elicit.InputError
-			if errors.As(err, &ie) && ie.Rule == ruleConfidencePercent && ie.Detail != "" {
+			if errors.As(err, &ie) && ie.Rule == workshop.RuleConfidencePercent && ie.Detail != "" {
 				return row, sheetErr(line, "confidence", ie.Rule, "did you mean %s, for %s%%?", ie.Detail, ie.Detail)
 			}
 			return row, underColumn(line, "confidence", err)
@@ -347,7 +347,7 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 			}
 		}
 	}
-	a.Percent = keptInPercent(q, typed, count)
+	a.Percent = workshop.KeptInPercent(q, typed, count)
 	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}
@@ -358,13 +358,13 @@ func readSheetRow(line int, cell func(string) string, questions []workshop.Quest
 			return row, err
 		}
 		column := ie.Field
-		if i, ok := fieldIndex(ie.Field); ok && i < len(mine) {
+		if i, ok := workshop.FieldIndex(ie.Field); ok && i < len(mine) {
 			column = mine[i]
 		} else if ie.Field == "counts" {
 			column = strings.Join(mine, ",")
 		}
 		if ie.Field == "confidence" && ie.Rule == elicit.RuleCentralTails {
-			return row, sheetErr(line, "confidence", ie.Rule, "in percent, at most "+confidenceMaxPercent)
+			return row, sheetErr(line, "confidence", ie.Rule, "in percent, at most "+workshop.ConfidenceMaxPercent)
 		}
 		if ie.Field == "confidence" {
 			return row, sheetErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
@@ -384,16 +384,6 @@ func underColumn(line int, column string, err error) error {
 	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
 }
 
-// fieldIndex reads the index of "values[2]" or "counts[2]".
-func fieldIndex(field string) (int, bool) {
-	open, end := strings.IndexByte(field, '['), strings.IndexByte(field, ']')
-	if open < 0 || end < open {
-		return 0, false
-	}
-	i, err := strconv.Atoi(field[open+1 : end])
-	return i, err == nil
-}
-
 // findExpert finds an active expert by name (case and spaces folded, as
 // sameName) or by id:N, and says how many it found: two experts of one
 // name must be named by id.
@@ -409,7 +399,7 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 	var found workshop.Expert
 	n := 0
 	for _, e := range experts {
-		if !e.Revoked && sameName(e.Name, s) {
+		if !e.Revoked && workshop.SameName(e.Name, s) {
 			found, n = e, n+1
 		}
 	}

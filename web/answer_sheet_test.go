@@ -258,7 +258,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"a confidence leaving no tail", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,99.9999999999999,\n", "row 3, column confidence", elicit.RuleCentralTails},
 		// The confidence is read as the form reads it: 0.8 almost surely
 		// means 80%, and was taken as 0.8% (a U-shaped fit, saved).
-		{"a confidence typed as a fraction", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,0.8,\n", "row 3, column confidence", ruleConfidencePercent},
+		{"a confidence typed as a fraction", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,0.8,\n", "row 3, column confidence", workshop.RuleConfidencePercent},
 		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
 		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
 		// A cell beyond the header's columns was dropped in silence: a
@@ -460,7 +460,7 @@ func TestAnswerSheetTakesPercentagesAsTheFormDoes(t *testing.T) {
 	qs := append(append([]workshop.Question(nil), g.qs...), days)
 	_, err = ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q"+strconv.Itoa(days.Position)+",10,20%,30\n"), qs, g.experts)
 	var ie *elicit.InputError
-	if !errors.As(err, &ie) || !strings.Contains(ie.Field, "row 2, column q50") || ie.Rule != rulePercentHere {
+	if !errors.As(err, &ie) || !strings.Contains(ie.Field, "row 2, column q50") || ie.Rule != workshop.RulePercentHere {
 		t.Errorf("%% on a question off [0, 1]: %v", err)
 	}
 }
@@ -554,25 +554,11 @@ func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 	}
 }
 
-// TestPercentIsKeptAsTyped: a percentage typed on the form or in a sheet
-// is stored as the typed decimal over 100, so 28.81% is 0.2881 in the
-// record, not 0.28809999999999997 (28.81 rounded to a float64, then
-// divided); the same for a four-value confidence of 80.5%.
+// TestPercentIsKeptAsTyped: a percentage typed in a sheet is stored as
+// the typed decimal over 100, as on the form (workshop's
+// TestPercentIsKeptAsTyped), so 28.81% is 0.2881 in the record.
 func TestPercentIsKeptAsTyped(t *testing.T) {
 	g := newSheetRig(t)
-	q := g.qs[0] // a proportion
-	for _, c := range []struct {
-		raw       string
-		asPercent bool
-	}{{"28.81%", false}, {"28.81 %", false}, {"28.81", true}} {
-		v, pct, err := parseAnswerNumber("values[1]", c.raw, q, c.asPercent)
-		if err != nil || !pct || v != 0.2881 {
-			t.Errorf("%q (percent unit %v): %v, %v, %v; want 0.2881 read as a percentage", c.raw, c.asPercent, v, pct, err)
-		}
-	}
-	if v, err := parseConfidence("80.5"); err != nil || v != 0.805 {
-		t.Errorf("confidence 80.5: %v, %v; want 0.805", v, err)
-	}
 	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,2.5%,28.81%,60.07%\n"
 	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
 	if err != nil {

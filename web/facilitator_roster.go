@@ -3,7 +3,6 @@ package web
 import (
 	"net/http"
 	"strconv"
-	"strings"
 	"time"
 
 	"github.com/a-h/templ"
@@ -25,14 +24,6 @@ type issuedEntry struct {
 
 // issuedFor is how long a just-issued link can be shown again.
 const issuedFor = 15 * time.Minute
-
-// sameName reports whether two display names are the same person's by
-// the rule a facilitator would apply at a glance: equal after trimming,
-// folding case and collapsing inner spaces.
-func sameName(a, b string) bool {
-	norm := func(s string) string { return strings.Join(strings.Fields(strings.ToLower(s)), " ") }
-	return norm(a) == norm(b)
-}
 
 // addExpert puts a new expert on the panel and redirects to the page that
 // shows their private link. A name already on the panel is refused with a
@@ -57,7 +48,7 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		for _, o := range others {
-			if sameName(o.Name, e.Name) {
+			if workshop.SameName(o.Name, e.Name) {
 				state := "on the panel"
 				if o.Revoked {
 					state = "on the panel, with access revoked"

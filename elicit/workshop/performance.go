@@ -114,7 +114,7 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 			set.skip(q, "asked as "+formatName(q.Format)+"; the classical model scores answers given as quantiles")
 			continue
 		case !slices.Equal(q.Probs, set.Probs):
-			set.skip(q, "asked at "+probsText(q.Probs)+"; the scored questions ask at "+probsText(set.Probs))
+			set.skip(q, "asked at "+ProbsLabel(q.Probs)+"; the scored questions ask at "+ProbsLabel(set.Probs))
 			continue
 		case q.TrueValue == nil || (revealedOnly && !q.Revealed):
 			set.Pending = append(set.Pending, q)
@@ -174,17 +174,6 @@ func formatName(f AnswerFormat) string {
 		return "chips in bins"
 	}
 	return string(f)
-}
-
-func probsText(ps []float64) string {
-	s := ""
-	for i, p := range ps {
-		if i > 0 {
-			s += ", "
-		}
-		s += strconv.FormatFloat(100*p, 'g', 4, 64) + "%"
-	}
-	return s
 }
 
 // Performance is the record's account of performance weighting by Cooke's

@@ -212,3 +212,31 @@ func DefaultBinEdges(lower, upper float64) []float64 {
 	edges[0], edges[DefaultBins] = lower, upper
 	return edges
 }
+
+// FormatLabel says how q is asked, in the words of the facilitator's
+// pages and of the answer sheet's messages: "quantiles at 5%, 50%, 95%",
+// "four-value interval", "20 chips in 4 bins".
+func FormatLabel(q Question) string {
+	switch q.Format {
+	case FormatQuantiles:
+		return "quantiles at " + ProbsLabel(q.Probs)
+	case FormatInterval:
+		return "four-value interval"
+	case FormatChips:
+		return strconv.Itoa(q.Chips) + " chips in " + strconv.Itoa(max(len(q.BinEdges)-1, 0)) + " bins"
+	}
+	return string(q.Format)
+}
+
+// ProbsLabel writes probabilities as percentages to four figures:
+// "5%, 50%, 95%".
+func ProbsLabel(ps []float64) string {
+	s := ""
+	for i, p := range ps {
+		if i > 0 {
+			s += ", "
+		}
+		s += strconv.FormatFloat(100*p, 'g', 4, 64) + "%"
+	}
+	return s
+}
