@@ -8,6 +8,7 @@ import (
 	"testing"
 
 	"github.com/chromedp/chromedp"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web"
 )
@@ -27,11 +28,11 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 	qs, _ := site.DB.Questions(ctx, w.ID)
 	es, _ := site.DB.Experts(ctx, w.ID)
 	text := "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
-	rows, err := web.ReadAnswerSheet(strings.NewReader(text), qs, es)
+	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
 	if err != nil {
 		t.Fatal(err)
 	}
-	file := web.SheetFile{Name: "hx40-phone-answers-round1-final-version-2.csv", Text: text}
+	file := answersheet.File{Name: "hx40-phone-answers-round1-final-version-2.csv", Text: text}
 	if err := web.SaveSheet(ctx, site.DB, w, rows, workshop.ChannelPhone, file); err != nil {
 		t.Fatal(err)
 	}

@@ -13,8 +13,8 @@ import (
 
 // The dependencies point inward: the mathematics imports nothing of
 // Parley, the input rules only its errors, the workshop the mathematics
-// and the input rules, the record those and the workshop (DEVELOPERS.md,
-// "Layout"). Test files may import more.
+// and the input rules, the record and the answer sheet those and the
+// workshop (DEVELOPERS.md, "Layout"). Test files may import more.
 func TestImportsPointInward(t *testing.T) {
 	const module = "github.com/parley-elicit/parley/"
 	allowed := map[string][]string{
@@ -23,6 +23,7 @@ func TestImportsPointInward(t *testing.T) {
 		"workshop":              {"elicit", "elicit/input"},
 		"workshop/workshoptest": {"elicit", "elicit/workshop"},
 		"record":                {"elicit", "elicit/input", "elicit/workshop"},
+		"answersheet":           {"elicit", "elicit/input", "elicit/workshop"},
 	}
 	dirs := 0
 	err := filepath.WalkDir(".", func(path string, d os.DirEntry, err error) error {

@@ -9,12 +9,12 @@ import (
 	"net/http"
 	"net/url"
 	"regexp"
-	"slices"
 	"strconv"
 	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
@@ -89,7 +89,7 @@ func (g *sheetRig) revisions(t *testing.T) []workshop.Revision {
 // as the expert's own form would fit it.
 func TestReadAnswerSheet(t *testing.T) {
 	g := newSheetRig(t)
-	rows, err := ReadAnswerSheet(strings.NewReader(goodSheet), g.qs, g.experts)
+	rows, err := answersheet.Read(strings.NewReader(goodSheet), g.qs, g.experts)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -143,7 +143,7 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 		",,,,,\r\n" +
 		"\"Bruno Ferrante\",\"Q1\",\"0.01\",\"0.03\",\"0.08\",\"\"\r\n" +
 		",,,,,\r\n,,, ,,\r\n"
-	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	rows, err := answersheet.Read(strings.NewReader(sheet), g.qs, g.experts)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -155,7 +155,7 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	}
 	// Only empty rows: no rows.
 	var ie *elicit.InputError
-	if _, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != ruleSheetEmpty {
+	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
 		t.Errorf("a sheet of empty rows: %v", err)
 	}
 }
@@ -169,12 +169,12 @@ func TestAnswerSheetNamesRowsAsASpreadsheetDoes(t *testing.T) {
 	sheet := "expert,question,q05,q50,q95,reason\n" +
 		"Ada Quell,Q1,0.02,0.06,0.15,\"Logs of 2019.\r\n\r\nAudits of 2024 (invented).\"\n" +
 		"Bruno Ferrante,Q1,0.02,0.01,0.15,\n"
-	_, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	_, err := answersheet.Read(strings.NewReader(sheet), g.qs, g.experts)
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || ie.Field != "row 3, column q50" {
 		t.Fatalf("got %v, want row 3, column q50", err)
 	}
-	rows, err := ReadAnswerSheet(strings.NewReader(strings.Replace(sheet, "0.02,0.01", "0.01,0.02", 1)+"ada quell,1,0.02,0.06,0.15,\n"), g.qs, g.experts)
+	rows, err := answersheet.Read(strings.NewReader(strings.Replace(sheet, "0.02,0.01", "0.01,0.02", 1)+"ada quell,1,0.02,0.06,0.15,\n"), g.qs, g.experts)
 	if !errors.As(err, &ie) || ie.Field != "row 4, column question" || !strings.Contains(ie.Detail, "also on row 2") {
 		t.Fatalf("a repeated row: %v %+v", err, rows)
 	}
@@ -189,43 +189,14 @@ func TestAnswerSheetNamesTwoExpertsOfOneName(t *testing.T) {
 		t.Fatal(err)
 	}
 	experts := append(append([]workshop.Expert(nil), g.experts...), twin)
-	_, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, experts)
+	_, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, experts)
 	var ie *elicit.InputError
-	if !errors.As(err, &ie) || ie.Field != "row 2, column expert" || ie.Rule != ruleSheetTwo {
-		t.Fatalf("got %v, want row 2, column expert: %s", err, ruleSheetTwo)
+	if !errors.As(err, &ie) || ie.Field != "row 2, column expert" || ie.Rule != answersheet.RuleTwoExperts {
+		t.Fatalf("got %v, want row 2, column expert: %s", err, answersheet.RuleTwoExperts)
 	}
-	rows, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nid:"+strconv.FormatInt(twin.ID, 10)+",Q1,0.02,0.06,0.15\n"), g.qs, experts)
+	rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nid:"+strconv.FormatInt(twin.ID, 10)+",Q1,0.02,0.06,0.15\n"), g.qs, experts)
 	if err != nil || rows[0].Expert.ID != twin.ID {
 		t.Errorf("by id: %+v %v", rows, err)
-	}
-}
-
-// Columns are named by the probabilities asked (the tertiles' q33 and
-// q67 at two digits, as people write them).
-func TestQuantileColumnNames(t *testing.T) {
-	for _, c := range []struct {
-		p    float64
-		want string
-	}{{0.05, "q05"}, {0.5, "q50"}, {0.95, "q95"}, {0.25, "q25"}, {0.975, "q975"}, {0.025, "q025"}, {1.0 / 3, "q33"}, {2.0 / 3, "q67"}, {0.1, "q10"}} {
-		if got := quantileColumn(c.p); got != c.want {
-			t.Errorf("QuantileColumn(%v) = %q, want %q", c.p, got, c.want)
-		}
-	}
-}
-
-// A question's columns are never named twice: two probabilities without
-// a short decimal form that round to one two-digit name take more
-// decimals.
-func TestQuantileColumnsOfOneQuestionDiffer(t *testing.T) {
-	q := workshop.Question{Format: workshop.FormatQuantiles, Probs: []float64{0.1, 1.0 / 3, 0.3343434343434343, 0.9}}
-	got := sheetColumns(q)
-	want := []string{"q10", "q333", "q334", "q90"}
-	if !slices.Equal(got, want) {
-		t.Errorf("columns %q, want %q", got, want)
-	}
-	q.Probs = []float64{1.0 / 3, 0.5, 2.0 / 3}
-	if got := sheetColumns(q); !slices.Equal(got, []string{"q33", "q50", "q67"}) {
-		t.Errorf("tertiles' columns %q", got)
 	}
 }
 
@@ -239,17 +210,17 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		name, sheet, field string
 		rule               elicit.Rule
 	}{
-		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", ruleSheetExpert},
-		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
+		{"unknown expert", head + good + "Dora Nobody,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", answersheet.RuleExpert},
+		{"unknown question", head + good + "Bruno Ferrante,Q9,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
 		// Ids and numbers by the rule of every id Parley reads, digits
 		// only (parley import-answers --workshop +1 is refused):
 		// strconv took a sign.
-		{"an expert's id with a sign", head + good + "id:+2,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", ruleSheetExpert},
-		{"a question's number with a sign", head + good + "Bruno Ferrante,+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
-		{"a question's id with a sign", head + good + "Bruno Ferrante,id:+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
-		{"Q and a sign", head + good + "Bruno Ferrante,Q+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetQuest},
-		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", ruleSheetColumn},
-		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", ruleSheetMissing},
+		{"an expert's id with a sign", head + good + "id:+2,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", answersheet.RuleExpert},
+		{"a question's number with a sign", head + good + "Bruno Ferrante,+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
+		{"a question's id with a sign", head + good + "Bruno Ferrante,id:+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
+		{"Q and a sign", head + good + "Bruno Ferrante,Q+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
+		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", answersheet.RuleColumn},
+		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", answersheet.RuleMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
 		{"a bad number", head + good + "Bruno Ferrante,Q1,0.02,1;5,0.15,,,,,\n", "row 3, column q50", input.RuleNumberSyntax},
 		// A four-value row's judgement rules are named by the sheet's own
@@ -260,16 +231,16 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// means 80%, and was taken as 0.8% (a U-shaped fit, saved).
 		{"a confidence typed as a fraction", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,0.1,0.8,\n", "row 3, column confidence", workshop.RuleConfidencePercent},
 		{"highest too close to best", head + good + "Bruno Ferrante,Q2,,,,0.05,0.100000000002,0.100000000001,80,\n", "row 3, column highest", elicit.RuleValuesTooClose},
-		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", ruleSheetRepeat},
+		{"the same expert and question twice", head + good + "ada quell,1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleRepeat},
 		// A cell beyond the header's columns was dropped in silence: a
 		// reason without its column, or a value split by a decimal comma.
-		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", ruleSheetExtra},
-		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, ruleSheetHeader},
+		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", answersheet.RuleExtra},
+		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, answersheet.RuleHeader},
 		// A spreadsheet set to a decimal comma writes semicolons between
 		// columns; the whole header was quoted back as one unknown column.
-		{"semicolons between columns", "expert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", ruleSheetCommas},
-		{"tabs between columns", "expert\tquestion\tq05\tq50\tq95\nAda Quell\tQ1\t0.02\t0.06\t0.15\n", "sheet", ruleSheetCommas},
-		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", ruleSheetQuest},
+		{"semicolons between columns", "expert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", answersheet.RuleCommas},
+		{"tabs between columns", "expert\tquestion\tq05\tq50\tq95\nAda Quell\tQ1\t0.02\t0.06\t0.15\n", "sheet", answersheet.RuleCommas},
+		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
 	} {
 		t.Run(c.name, func(t *testing.T) {
 			if c.name == "a revealed calibration question" {
@@ -279,7 +250,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 				qs, _ := g.h.db.Questions(context.Background(), g.ws.ID)
 				g.qs = qs
 			}
-			_, err := ReadAnswerSheet(strings.NewReader(c.sheet), g.qs, g.experts)
+			_, err := answersheet.Read(strings.NewReader(c.sheet), g.qs, g.experts)
 			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != c.field || (c.rule != input.RuleNumberSyntax && ie.Rule != c.rule) {
 				t.Fatalf("got %v, want %s: %s", err, c.field, c.rule)
@@ -299,7 +270,7 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		t.Fatal(err)
 	}
 	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {head + good}})
-	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 2, column question") || !strings.Contains(body, html.EscapeString(string(ruleSheetRound))) {
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 2, column question") || !strings.Contains(body, html.EscapeString(string(answersheet.RuleRound))) {
 		t.Errorf("closed round: %d", r.StatusCode)
 	}
 }
@@ -440,7 +411,7 @@ func TestAnswerSheetTakesPercentagesAsTheFormDoes(t *testing.T) {
 	sheet := "expert,question,q05,q50,q95,lowest,highest,best,confidence\n" +
 		"Ada Quell,Q1,1%,4%,12%,,,,\n" +
 		"Ada Quell,Q2,,,,5%,30%,12%,80%\n"
-	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	rows, err := answersheet.Read(strings.NewReader(sheet), g.qs, g.experts)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -451,14 +422,14 @@ func TestAnswerSheetTakesPercentagesAsTheFormDoes(t *testing.T) {
 		t.Errorf("interval in percent read as %+v", a)
 	}
 	// Mixed: kept as decimals, each value read as typed.
-	rows, err = ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.01,4%,0.12\n"), g.qs, g.experts)
+	rows, err = answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.01,4%,0.12\n"), g.qs, g.experts)
 	if err != nil || rows[0].Answer.Percent || rows[0].Answer.Values[1] != 0.04 {
 		t.Errorf("mixed row: %+v %v", rows, err)
 	}
 	days := workshop.Question{ID: 9999, WorkshopID: g.ws.ID, Position: len(g.qs) + 1, Wording: "Days to repair a tank? (invented)",
 		Quantity: "repair time", Units: "days", Lower: 0, Upper: 60, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
 	qs := append(append([]workshop.Question(nil), g.qs...), days)
-	_, err = ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q"+strconv.Itoa(days.Position)+",10,20%,30\n"), qs, g.experts)
+	_, err = answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q"+strconv.Itoa(days.Position)+",10,20%,30\n"), qs, g.experts)
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || !strings.Contains(ie.Field, "row 2, column q50") || ie.Rule != workshop.RulePercentHere {
 		t.Errorf("%% on a question off [0, 1]: %v", err)
@@ -484,7 +455,7 @@ func TestSheetUploadOverItsLimit(t *testing.T) {
 		req.Header.Set("Origin", g.h.ts.URL)
 		return g.h.do(req)
 	}
-	r, body := upload(maxSheetBytes + 1000)
+	r, body := upload(answersheet.MaxBytes + 1000)
 	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "at most 1 MiB") || !strings.Contains(body, `name="file"`) {
 		t.Errorf("a file of 1 MiB + 1000 bytes: %d, want 422 with the form and the limit beside the file:\n%.600s", r.StatusCode, body)
 	}
@@ -526,7 +497,7 @@ func TestMalformedUploadIsRefusedInWords(t *testing.T) {
 func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 	g := newSheetRig(t)
 	ctx := context.Background()
-	rows, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\n"+
+	rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n"+
 		"Ada Quell,Q1,0.02,0.06,0.15\nChiara Osei,Q1,0.01,0.03,0.08\nBruno Ferrante,Q1,0.03,0.07,0.2\n"), g.qs, g.experts)
 	if err != nil {
 		t.Fatal(err)
@@ -534,10 +505,10 @@ func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 	if err := g.h.db.RevokeExpert(ctx, g.experts[1].ID, "invented: left the panel"); err != nil {
 		t.Fatal(err)
 	}
-	err = SaveSheet(ctx, g.h.db, g.ws, rows, workshop.ChannelFile, SheetFile{Text: "invented"})
+	err = SaveSheet(ctx, g.h.db, g.ws, rows, workshop.ChannelFile, answersheet.File{Text: "invented"})
 	var ie *elicit.InputError
-	if !errors.As(err, &ie) || ie.Field != "row 4, column expert" || ie.Rule != ruleSheetExpert {
-		t.Fatalf("got %v, want row 4, column expert: %s", err, ruleSheetExpert)
+	if !errors.As(err, &ie) || ie.Field != "row 4, column expert" || ie.Rule != answersheet.RuleExpert {
+		t.Fatalf("got %v, want row 4, column expert: %s", err, answersheet.RuleExpert)
 	}
 	if revs := g.revisions(t); len(revs) != 0 {
 		t.Fatalf("%d revisions kept from a refused sheet: %+v", len(revs), revs)
@@ -560,7 +531,7 @@ func TestSheetSaveIsAllOrNothingInTheStore(t *testing.T) {
 func TestPercentIsKeptAsTyped(t *testing.T) {
 	g := newSheetRig(t)
 	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,2.5%,28.81%,60.07%\n"
-	rows, err := ReadAnswerSheet(strings.NewReader(sheet), g.qs, g.experts)
+	rows, err := answersheet.Read(strings.NewReader(sheet), g.qs, g.experts)
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -10,6 +10,7 @@ import (
 	"sync"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
 )
@@ -133,15 +134,15 @@ func TestSaveMeetsACorrectedQuestion(t *testing.T) {
 	}
 
 	// An answer sheet read before a correction.
-	rows, err := ReadAnswerSheet(strings.NewReader("expert,question,q05,q50,q95\n"+es[2].Name+","+strconv.Itoa(q.Position)+",0.2,0.3,0.4\n"),
+	rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n"+es[2].Name+","+strconv.Itoa(q.Position)+",0.2,0.3,0.4\n"),
 		[]workshop.Question{back}, es)
 	if err != nil {
 		t.Fatal(err)
 	}
 	st.edit = &corrected
-	err = SaveSheet(ctx, st, ws, rows, workshop.ChannelFile, SheetFile{Text: "invented"})
-	if !errors.Is(err, workshop.ErrQuestionChanged) && !strings.Contains(errString(err), string(ruleSheetChanged)) {
-		t.Errorf("a sheet meeting a corrected question: %v, want the row refused by %q", err, ruleSheetChanged)
+	err = SaveSheet(ctx, st, ws, rows, workshop.ChannelFile, answersheet.File{Text: "invented"})
+	if !errors.Is(err, workshop.ErrQuestionChanged) && !strings.Contains(errString(err), string(answersheet.RuleChanged)) {
+		t.Errorf("a sheet meeting a corrected question: %v, want the row refused by %q", err, answersheet.RuleChanged)
 	}
 	if n := answered(); n != 0 {
 		t.Errorf("%d answers were saved to the corrected question, want none", n)

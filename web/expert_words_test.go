@@ -11,6 +11,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -310,7 +311,7 @@ func TestTheLargestConfidenceIsTaken(t *testing.T) {
 	qs := []workshop.Question{g.qi}
 	es := []workshop.Expert{g.experts[0]}
 	sheet := func(c string) error {
-		_, err := ReadAnswerSheet(strings.NewReader("expert,question,lowest,highest,best,confidence\nid:"+
+		_, err := answersheet.Read(strings.NewReader("expert,question,lowest,highest,best,confidence\nid:"+
 			strconv.FormatInt(g.experts[0].ID, 10)+",id:"+strconv.FormatInt(g.qi.ID, 10)+",0.02,0.6,0.2,"+c+"\n"), qs, es)
 		return err
 	}

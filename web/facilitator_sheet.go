@@ -8,6 +8,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -18,21 +19,13 @@ import (
 // confirmation reads it again against the workshop as it is then, so
 // what is saved is what the preview showed, or nothing.
 
-// MaxSheetBytes is the largest answer sheet the upload takes: a sheet at
-// MaxSheetRows of ordinary rows fits well within it.
-const maxSheetBytes = 1 << 20
-
-// MaxSheetBytes is maxSheetBytes for parley import-answers, which reads a
-// sheet whole to keep its SHA-256 (ReadAnswerSheet refuses a longer one).
-const MaxSheetBytes = maxSheetBytes
-
 // sheetFor is how long an uploaded sheet waits for its confirmation.
 const sheetFor = 30 * time.Minute
 
 // keptSheet is an uploaded sheet waiting for its confirmation.
 type keptSheet struct {
 	workshop int64
-	file     SheetFile
+	file     answersheet.File
 	channel  workshop.Channel
 }
 
@@ -40,7 +33,7 @@ type keptSheet struct {
 type sheetView struct {
 	Workshop workshop.Workshop
 	Form     *Form
-	Rows     []sheetRow
+	Rows     []answersheet.Row
 	Key      string
 	Channel  workshop.Channel
 	// Questions are the workshop's questions that take answers, whose
@@ -65,7 +58,7 @@ func (v sheetView) replacesOwn() int {
 
 // replacedLabel says what a row's judgement follows: "Ada Quell's own
 // answer of 2026-12-03 04:28 UTC (round 1)".
-func replacedLabel(row sheetRow, rv workshop.Revision) string {
+func replacedLabel(row answersheet.Row, rv workshop.Revision) string {
 	who := row.Expert.Name + "'s own answer"
 	if rv.EnteredBy == workshop.ByFacilitator {
 		who = "your entry"
@@ -79,7 +72,7 @@ func sheetHeader(qs []workshop.Question) string {
 	cols := []string{"expert", "question"}
 	seen := map[string]bool{}
 	for _, q := range qs {
-		for _, c := range sheetColumns(q) {
+		for _, c := range answersheet.Columns(q) {
 			if !seen[c] {
 				seen[c] = true
 				cols = append(cols, c)
@@ -122,33 +115,33 @@ func (s *Server) renderSheet(w http.ResponseWriter, r *http.Request, status int,
 
 // readSheetUpload reads the posted sheet: a file (multipart) or text
 // pasted into the form.
-func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, SheetFile, bool) {
+func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, answersheet.File, bool) {
 	if strings.HasPrefix(r.Header.Get("Content-Type"), "multipart/form-data") {
-		if err := r.ParseMultipartForm(maxSheetBytes); err != nil {
+		if err := r.ParseMultipartForm(answersheet.MaxBytes); err != nil {
 			var mbe *http.MaxBytesError
 			if errors.As(err, &mbe) {
 				tooLarge(w, mbe.Limit)
-				return nil, SheetFile{}, false
+				return nil, answersheet.File{}, false
 			}
 			// Only a broken client sends this; Go's own words ("multipart:
 			// NextPart: EOF") would tell the facilitator nothing.
 			http.Error(w, "The upload could not be read as a file upload (multipart/form-data): the request was cut short or malformed. Nothing was saved; send the sheet again.", http.StatusBadRequest)
-			return nil, SheetFile{}, false
+			return nil, answersheet.File{}, false
 		}
 		// As every form: a field, the file included, sent twice is
 		// refused, not half-read (a second file was ignored in silence).
 		if !oneValueEach(w, r.MultipartForm.Value) {
-			return nil, SheetFile{}, false
+			return nil, answersheet.File{}, false
 		}
 		files := make(map[string][]string, len(r.MultipartForm.File))
 		for name, fhs := range r.MultipartForm.File {
 			files[name] = make([]string, len(fhs))
 		}
 		if !oneValueEach(w, files) {
-			return nil, SheetFile{}, false
+			return nil, answersheet.File{}, false
 		}
 	} else if !parseForm(w, r) {
-		return nil, SheetFile{}, false
+		return nil, answersheet.File{}, false
 	}
 	f := newForm(r.PostForm)
 	text, name := f.Value("sheet"), ""
@@ -156,10 +149,10 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, SheetFile, 
 		if files := r.MultipartForm.File["file"]; len(files) > 0 {
 			fh, err := files[0].Open()
 			if err == nil {
-				b, rerr := io.ReadAll(io.LimitReader(fh, maxSheetBytes+1))
+				b, rerr := io.ReadAll(io.LimitReader(fh, answersheet.MaxBytes+1))
 				fh.Close()
 				err = rerr
-				if len(b) > maxSheetBytes {
+				if len(b) > answersheet.MaxBytes {
 					err = nil
 					f.set("file", string(input.RuleTooLong)+" (at most 1 MiB, 1,048,576 bytes); nothing was saved")
 				} else if strings.TrimSpace(string(b)) != "" {
@@ -171,7 +164,7 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, SheetFile, 
 			}
 		}
 	}
-	return f, SheetFile{Name: name, Text: text}, true
+	return f, answersheet.File{Name: name, Text: text}, true
 }
 
 // sheetPreview checks an uploaded sheet and shows every row with its fit,
@@ -229,7 +222,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
 // when the round is closed.
-func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]sheetRow, error) {
+func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]answersheet.Row, error) {
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
 		return nil, err
@@ -238,9 +231,9 @@ func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) 
 	if err != nil {
 		return nil, err
 	}
-	rows, err := ReadAnswerSheet(strings.NewReader(text), qs, es)
+	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
 	if err == nil && !ws.Open {
-		err = sheetErr(rows[0].Line, "question", ruleSheetRound, "round %d is closed", ws.Round)
+		err = answersheet.RoundClosed(ws.Round, rows)
 	}
 	return rows, err
 }

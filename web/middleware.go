@@ -9,6 +9,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 )
 
@@ -64,7 +65,7 @@ func limitBody(next http.Handler) http.Handler {
 
 // sheetBodyBytes is the body limit of an answer sheet's upload: the
 // sheet and its form's parts.
-const sheetBodyBytes = maxSheetBytes + 64<<10
+const sheetBodyBytes = answersheet.MaxBytes + 64<<10
 
 // sheetUpload is the one address that takes more than MaxBodyBytes: an
 // answer sheet's upload.

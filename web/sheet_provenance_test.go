@@ -15,6 +15,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -103,9 +104,9 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 			got = append(got, rec[col["expert"]]+" "+rec[col["channel"]]+" "+rec[col["sheet_file"]]+" "+rec[col["sheet_row"]]+" "+rec[col["sheet_sha256"]][:min(8, len(rec[col["sheet_sha256"]]))])
 		}
 		want := []string{
-			"Ada Quell paper_form monday.csv 2 " + SheetFile{Text: monday}.SHA256()[:8],
-			"Bruno Ferrante paper_form monday.csv 3 " + SheetFile{Text: monday}.SHA256()[:8],
-			"Bruno Ferrante message tuesday.csv 3 " + SheetFile{Text: tuesday}.SHA256()[:8],
+			"Ada Quell paper_form monday.csv 2 " + answersheet.File{Text: monday}.SHA256()[:8],
+			"Bruno Ferrante paper_form monday.csv 3 " + answersheet.File{Text: monday}.SHA256()[:8],
+			"Bruno Ferrante message tuesday.csv 3 " + answersheet.File{Text: tuesday}.SHA256()[:8],
 		}
 		if strings.Join(got, "\n") != strings.Join(want, "\n") {
 			t.Errorf("%s:\n%s\nwant\n%s", path, strings.Join(got, "\n"), strings.Join(want, "\n"))
@@ -128,9 +129,9 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 		}
 	}
 	wantJSON := []string{
-		fmt.Sprintf("%d monday.csv 2 %s", ada, SheetFile{Text: monday}.SHA256()[:8]),
-		fmt.Sprintf("%d monday.csv 3 %s", bruno, SheetFile{Text: monday}.SHA256()[:8]),
-		fmt.Sprintf("%d tuesday.csv 3 %s", bruno, SheetFile{Text: tuesday}.SHA256()[:8]),
+		fmt.Sprintf("%d monday.csv 2 %s", ada, answersheet.File{Text: monday}.SHA256()[:8]),
+		fmt.Sprintf("%d monday.csv 3 %s", bruno, answersheet.File{Text: monday}.SHA256()[:8]),
+		fmt.Sprintf("%d tuesday.csv 3 %s", bruno, answersheet.File{Text: tuesday}.SHA256()[:8]),
 	}
 	if strings.Join(named, "\n") != strings.Join(wantJSON, "\n") {
 		t.Errorf("the JSON record's revisions name\n%s\nwant\n%s", strings.Join(named, "\n"), strings.Join(wantJSON, "\n"))
@@ -140,7 +141,7 @@ func TestSheetJudgementsNameTheirFileAndRow(t *testing.T) {
 		t.Fatal(err)
 	}
 	body = compact.String()
-	if !strings.Contains(body, `"sheet":{"file":"monday.csv","row":2,"sha256":"`+SheetFile{Text: monday}.SHA256()+`"}`) {
+	if !strings.Contains(body, `"sheet":{"file":"monday.csv","row":2,"sha256":"`+answersheet.File{Text: monday}.SHA256()+`"}`) {
 		t.Error(`the JSON record does not carry "sheet": {"file", "row", "sha256"} on a revision`)
 	}
 	tampered := strings.Replace(body, `"file":"monday.csv","row":3`, `"file":"monday.csv","row":4`, 1)
@@ -183,7 +184,7 @@ func TestSheetPageNamesThisWorkshopsColumns(t *testing.T) {
 		}
 	}
 	// The header the page gives reads as a sheet of this workshop.
-	if _, err := ReadAnswerSheet(strings.NewReader(sheetHeader(g.qs)+"\nAda Quell,Q4,,0.15,,,,,,,,,,0.1,0.2,\n"), g.qs, g.experts); err != nil {
+	if _, err := answersheet.Read(strings.NewReader(sheetHeader(g.qs)+"\nAda Quell,Q4,,0.15,,,,,,,,,,0.1,0.2,\n"), g.qs, g.experts); err != nil {
 		t.Errorf("a sheet under the page's header: %v", err)
 	}
 }

@@ -10,16 +10,16 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
-	"github.com/parley-elicit/parley/web"
 )
 
 func init() {
 	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run)", runImportAnswers)
 }
 
-// runImportAnswers reads an answer sheet (web.ReadAnswerSheet) against
+// runImportAnswers reads an answer sheet (answersheet.Read) against
 // the workshop's questions and panel and saves every row as a revision
 // the facilitator entered, all in one transaction, or none: any bad row
 // is refused with exit status 2 naming its row, column and rule.
@@ -85,21 +85,21 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return fail(stderr, "import-answers", err)
 	}
 	// The sheet's bytes as read, whose SHA-256 the record keeps.
-	text, err := io.ReadAll(io.LimitReader(r, web.MaxSheetBytes+1))
+	text, err := io.ReadAll(io.LimitReader(r, answersheet.MaxBytes+1))
 	if err != nil {
 		return fail(stderr, "import-answers", badInput("in", "%v", err))
 	}
-	file := web.SheetFile{Text: string(text)}
+	file := answersheet.File{Text: string(text)}
 	if *in != "-" {
 		file.Name = filepath.Base(*in)
 	}
-	rows, err := web.ReadAnswerSheet(bytes.NewReader(text), qs, es)
+	rows, err := answersheet.Read(bytes.NewReader(text), qs, es)
 	if err != nil {
 		return fail(stderr, "import-answers", err)
 	}
 	if !ws.Open {
 		// The same refusal as the save's, named at the first row.
-		return fail(stderr, "import-answers", web.SaveSheet(ctx, db, ws, rows, ch, file))
+		return fail(stderr, "import-answers", answersheet.RoundClosed(ws.Round, rows))
 	}
 	verb := "saved"
 	if *dryRun {
@@ -116,8 +116,9 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			followsNote(row.Expert.Name, cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]))
 	}
 	if !*dryRun {
-		if err := web.SaveSheet(ctx, db, ws, rows, ch, file); err != nil {
-			return fail(stderr, "import-answers", err)
+		err := db.SaveImportedRevisions(ctx, ws.ID, answersheet.Revisions(rows, ch), answersheet.Import(rows, ch, file))
+		if err != nil {
+			return fail(stderr, "import-answers", answersheet.RefusalAtRow(err, ws.Round, rows))
 		}
 	}
 	fmt.Fprintf(stdout, "%s %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, countOf(len(rows), "judgement", "judgements"), ws.Round, wid, ch)

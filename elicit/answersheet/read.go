@@ -1,0 +1,377 @@
+package answersheet
+
+import (
+	"bytes"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// An answer sheet is a CSV (RFC 4180) of judgements sent to the
+// facilitator, one row per expert and question, which the facilitator
+// imports on the experts' behalf (`parley import-answers`, and the upload
+// on the workshop's pages). Its columns:
+//
+//	expert     the expert's name as on the panel, or id:N
+//	question   the question's number as on the overview (3 or Q3), or id:N
+//	qNN ...    for a quantile question, one column per probability it asks,
+//	           named as `parley calibrate` reads them: q05, q50, q95; a
+//	           probability without a short decimal form takes two digits
+//	           (q33 for 1/3), where the calibration page's CSV
+//	           (record.WriteCalibrationCSV) writes every digit
+//	lowest, highest, best, confidence   for a four-value question; the
+//	           confidence in percent, as on the expert's form (80 for 80%)
+//	bin1 ...   for a chips question, the chips in each bin, in order
+//	reason     optional: the expert's reasoning
+//
+// A row fills only the columns of its question's format. Every cell goes
+// through the rules of the expert's own form, so the sheet is refused as
+// a whole, naming the row (as a spreadsheet numbers it), the column and the rule,
+// when any row breaks one.
+
+// Rules of answer sheets.
+const (
+	RuleHeader     elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason)"
+	RuleColumn     elicit.Rule = "is not a column of this question's format"
+	RuleMissing    elicit.Rule = "is required for this question's format"
+	RuleRepeat     elicit.Rule = "one row per expert and question"
+	RuleExpert     elicit.Rule = "names no active expert on this workshop's panel"
+	RuleQuestion   elicit.Rule = "names no question of this workshop that takes answers"
+	RuleEmpty      elicit.Rule = "the sheet has no rows"
+	RuleChanged    elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
+	RuleExtra      elicit.Rule = "is beyond the columns the header names"
+	RuleCommas     elicit.Rule = "must separate its columns with commas: save it as CSV (comma-separated), with a point for decimals"
+	RuleTwoExperts elicit.Rule = "names more than one active expert: name each by id:N"
+	// RuleRound is the rule that a sheet is saved into an open round.
+	RuleRound elicit.Rule = "the workshop's round is closed, so no answer can be saved"
+)
+
+// maxRows bounds a sheet: a panel of 200 experts answering 50
+// questions.
+const maxRows = 10000
+
+// Row is one row of a sheet, read and fitted.
+type Row struct {
+	Line     int // the row as a spreadsheet numbers it, the header row 1
+	Expert   workshop.Expert
+	Question workshop.Question
+	Answer   workshop.Answer
+	Reason   string
+	Fit      elicit.Fit
+}
+
+// shownCell is a cell as a message quotes it, clipped to 40 characters.
+func shownCell(s string) string { return strconv.Quote(input.Clip(s, 40)) }
+
+// rowErr names a row and a column.
+func rowErr(line int, column string, rule elicit.Rule, detail string, args ...any) error {
+	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: rule, Detail: fmt.Sprintf(detail, args...)}
+}
+
+// Read reads a sheet against a workshop's questions and panel.
+// Rows are returned in file order, each fitted by its question's Fit, or
+// the first broken rule as an *elicit.InputError naming the row and the
+// column. Retired questions, calibration questions whose true value is
+// revealed, and revoked experts take no answers here either.
+func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert) ([]Row, error) {
+	// The upload's limit holds for a file given to parley import-answers
+	// too, which read any file whole.
+	b, err := io.ReadAll(io.LimitReader(r, MaxBytes+1))
+	if err != nil {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleHeader, Detail: err.Error()}
+	}
+	if len(b) > MaxBytes {
+		return nil, &elicit.InputError{Field: "sheet", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (1 MiB)", MaxBytes)}
+	}
+	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
+	// would make a quoted first header cell a bare quote.
+	cr := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	header, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleEmpty}
+	}
+	if err != nil {
+		return nil, rowErr(1, "?", RuleHeader, "%v", err)
+	}
+	known := map[string]bool{"expert": true, "question": true, "reason": true}
+	for _, q := range questions {
+		for _, c := range Columns(q) {
+			known[c] = true
+		}
+	}
+	if len(header) == 1 {
+		// A spreadsheet set to a decimal comma saves CSV with semicolons
+		// (or tabs) between the columns: the whole header is one cell.
+		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
+			if strings.Contains(header[0], sep.char) {
+				return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep.name}
+			}
+		}
+	}
+	col := map[string]int{}
+	for i, h := range header {
+		h = strings.ToLower(strings.TrimSpace(h))
+		if !known[h] {
+			return nil, rowErr(1, shownCell(h), RuleHeader, "no question of this workshop has a column %s", shownCell(h))
+		}
+		if _, dup := col[h]; dup {
+			return nil, rowErr(1, shownCell(h), RuleHeader, "the column appears twice")
+		}
+		col[h] = i
+	}
+	for _, need := range []string{"expert", "question"} {
+		if _, ok := col[need]; !ok {
+			return nil, rowErr(1, need, RuleHeader, "missing")
+		}
+	}
+	var rows []Row
+	seen := map[[2]int64]int{}
+	// A spreadsheet numbers rows, not the file's lines: a line break in a
+	// quoted cell (a reason in paragraphs) starts no row, so the rows
+	// below it are named by their line less the breaks above them.
+	breaks := 0
+	countBreaks := func(rec []string) {
+		for _, c := range rec {
+			breaks += strings.Count(c, "\n")
+		}
+	}
+	countBreaks(header)
+	for {
+		rec, err := cr.Read()
+		if errors.Is(err, io.EOF) {
+			break
+		}
+		start, _ := cr.FieldPos(0)
+		if err != nil {
+			var pe *csv.ParseError
+			if errors.As(err, &pe) {
+				start = pe.StartLine
+			}
+			return nil, rowErr(start-breaks, "?", RuleHeader, "not CSV: %v", err)
+		}
+		line := start - breaks
+		countBreaks(rec)
+		// A row of empty cells (a spreadsheet writes one for every row
+		// that was ever touched) is no row.
+		blank := true
+		for i, c := range rec {
+			if strings.TrimSpace(c) == "" {
+				continue
+			}
+			if i >= len(header) {
+				// Never dropped in silence: a reason without a
+				// column, or a decimal comma that split a value.
+				return nil, rowErr(line, strconv.Itoa(i+1), RuleExtra, "the header names %d columns; this row has %s in column %d", len(header), shownCell(c), i+1)
+			}
+			blank = false
+		}
+		if blank {
+			continue
+		}
+		if len(rows) == maxRows {
+			return nil, rowErr(line, "?", elicit.RuleCountRange, "at most %d rows", maxRows)
+		}
+		cell := func(name string) string {
+			if i, ok := col[name]; ok && i < len(rec) {
+				return strings.TrimSpace(rec[i])
+			}
+			return ""
+		}
+		row, err := readRow(line, cell, questions, experts, col)
+		if err != nil {
+			return nil, err
+		}
+		key := [2]int64{row.Expert.ID, row.Question.ID}
+		if first, dup := seen[key]; dup {
+			return nil, rowErr(line, "question", RuleRepeat, "%s's answer to Q%d is also on row %d", row.Expert.Name, row.Question.Position, first)
+		}
+		seen[key] = line
+		rows = append(rows, row)
+	}
+	if len(rows) == 0 {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleEmpty}
+	}
+	return rows, nil
+}
+
+// readRow reads one row by the expert form's own number rules
+// (workshop.ParseAnswerNumber, workshop.ParseConfidence) and elicit's.
+func readRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (Row, error) {
+	row := Row{Line: line}
+	var ok bool
+	var n int
+	if row.Expert, n = findExpert(cell("expert"), experts); n != 1 {
+		rule := RuleExpert
+		if n > 1 {
+			rule = RuleTwoExperts
+		}
+		return row, rowErr(line, "expert", rule, "%s", shownCell(cell("expert")))
+	}
+	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
+		return row, rowErr(line, "question", RuleQuestion, "%s", shownCell(cell("question")))
+	}
+	q := row.Question
+	if q.Frozen() {
+		return row, rowErr(line, "question", RuleQuestion, "Q%d's true value has been revealed, so its answers are final", q.Position)
+	}
+	mine := Columns(q)
+	own := map[string]bool{"expert": true, "question": true, "reason": true}
+	for _, c := range mine {
+		own[c] = true
+		if cell(c) == "" {
+			if _, present := col[c]; !present || q.Format != workshop.FormatChips {
+				return row, rowErr(line, c, RuleMissing, "Q%d is asked as %s", q.Position, workshop.FormatLabel(q))
+			}
+		}
+	}
+	for name := range col {
+		if !own[name] && cell(name) != "" {
+			return row, rowErr(line, name, RuleColumn, "Q%d is asked as %s", q.Position, workshop.FormatLabel(q))
+		}
+	}
+	// Each cell by the form's own number rules, the answer by elicit's.
+	var a workshop.Answer
+	// A value may carry a % sign on a proportion, as on the form; the
+	// answer is kept as typed in percent when every value was.
+	typed, count := 0, 0
+	num := func(c string) (float64, error) {
+		v, pct, err := workshop.ParseAnswerNumber(c, cell(c), q, false)
+		count++
+		if pct {
+			typed++
+		}
+		return v, underColumn(line, c, err)
+	}
+	var err error
+	switch q.Format {
+	case workshop.FormatInterval:
+		for _, f := range []struct {
+			c string
+			v *float64
+		}{{"lowest", &a.Lowest}, {"highest", &a.Highest}, {"best", &a.Best}} {
+			if *f.v, err = num(f.c); err != nil {
+				return row, err
+			}
+		}
+		// In percent, by the expert's form's own reading: with or without
+		// its sign, and 0.8 refused as almost surely meaning 80%.
+		if a.Confidence, err = workshop.ParseConfidence(cell("confidence")); err != nil {
+			var ie *elicit.InputError
+			if errors.As(err, &ie) && ie.Rule == workshop.RuleConfidencePercent && ie.Detail != "" {
+				return row, rowErr(line, "confidence", ie.Rule, "did you mean %s, for %s%%?", ie.Detail, ie.Detail)
+			}
+			return row, underColumn(line, "confidence", err)
+		}
+	case workshop.FormatChips:
+		a.Counts = make([]int, len(mine))
+		for i, c := range mine {
+			v := cell(c)
+			if v == "" {
+				continue // an empty bin holds no chips
+			}
+			if a.Counts[i], err = input.Whole(c, v, 0, workshop.MaxChips); err != nil {
+				return row, underColumn(line, c, err)
+			}
+		}
+	default:
+		a.Values = make([]float64, len(mine))
+		for i, c := range mine {
+			if a.Values[i], err = num(c); err != nil {
+				return row, err
+			}
+		}
+	}
+	a.Percent = workshop.KeptInPercent(q, typed, count)
+	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
+		return row, underColumn(line, "reason", err)
+	}
+	fit, err := q.Fit(a)
+	if err != nil {
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) {
+			return row, err
+		}
+		column := ie.Field
+		if i, ok := workshop.FieldIndex(ie.Field); ok && i < len(mine) {
+			column = mine[i]
+		} else if ie.Field == "counts" {
+			column = strings.Join(mine, ",")
+		}
+		if ie.Field == "confidence" && ie.Rule == elicit.RuleCentralTails {
+			return row, rowErr(line, "confidence", ie.Rule, "in percent, at most "+workshop.ConfidenceMaxPercent)
+		}
+		if ie.Field == "confidence" {
+			return row, rowErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
+		}
+		return row, &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
+	}
+	row.Answer, row.Fit = a, fit
+	return row, nil
+}
+
+// underColumn puts a cell's parse error under its row and column.
+func underColumn(line int, column string, err error) error {
+	var ie *elicit.InputError
+	if err == nil || !errors.As(err, &ie) {
+		return err
+	}
+	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
+}
+
+// findExpert finds an active expert by name (case and spaces folded, as
+// workshop.SameName) or by id:N, and says how many it found: two experts of one
+// name must be named by id.
+func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
+	if id, ok := sheetID(s); ok {
+		for _, e := range experts {
+			if e.ID == id && !e.Revoked {
+				return e, 1
+			}
+		}
+		return workshop.Expert{}, 0
+	}
+	var found workshop.Expert
+	n := 0
+	for _, e := range experts {
+		if !e.Revoked && workshop.SameName(e.Name, s) {
+			found, n = e, n+1
+		}
+	}
+	return found, n
+}
+
+// findQuestion finds a question that takes answers by its number (3 or
+// Q3) or by id:N.
+func findQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
+	id, byID := sheetID(s)
+	pos, err := input.Whole("question", strings.TrimPrefix(strings.ToUpper(strings.TrimSpace(s)), "Q"), 1, input.MaxID)
+	for _, q := range questions {
+		if q.Retired {
+			continue
+		}
+		if (byID && q.ID == id) || (!byID && err == nil && q.Position == pos) {
+			return q, true
+		}
+	}
+	return workshop.Question{}, false
+}
+
+// sheetID reads "id:N", N by the rule of every id Parley reads: digits
+// only, 1 to input.MaxID (strconv.ParseInt took "id:+3").
+func sheetID(s string) (int64, bool) {
+	rest, ok := strings.CutPrefix(strings.ToLower(strings.TrimSpace(s)), "id:")
+	if !ok {
+		return 0, false
+	}
+	id, err := input.Whole("id", rest, 1, input.MaxID)
+	return int64(id), err == nil
+}
