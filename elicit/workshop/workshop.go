@@ -4,7 +4,6 @@ import (
 	"fmt"
 	"math"
 	"slices"
-	"strings"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -464,14 +463,6 @@ func (e Expert) CheckText() error {
 		{"affiliation", e.Affiliation, input.MaxShortText, false},
 		{"expertise", e.Expertise, input.MaxLongText, false},
 	})
-}
-
-// SameName reports whether two display names are the same person's by
-// the rule a facilitator would apply at a glance: equal after trimming,
-// folding case and collapsing inner spaces.
-func SameName(a, b string) bool {
-	norm := func(s string) string { return strings.Join(strings.Fields(strings.ToLower(s)), " ") }
-	return norm(a) == norm(b)
 }
 
 // textField is one text field with its limit in characters.
