@@ -272,7 +272,7 @@ func fittedBack(p, fittedP float64) string {
 // labels speak of the judgement's owner by sp ("you" on the expert's own
 // page, the expert's name where the facilitator enters it).
 func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) answerForm {
-	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: isProportion(q) && q.Format != workshop.FormatChips, Unit: unitProportion}
+	f := answerForm{Format: q.Format, Chips: q.Chips, Proportion: q.ValuesInPercent(), Unit: unitProportion}
 	if typed["unit"] == unitPercent {
 		f.Unit = unitPercent
 	}
@@ -932,7 +932,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 			d := fit.Dist
 			own = &d
 		}
-		percent = sc.own[n-1].Answer.Percent && isProportion(q) && q.Format != workshop.FormatChips
+		percent = sc.own[n-1].Answer.Percent && q.ValuesInPercent()
 	}
 	var others []feedbackMember
 	for _, m := range fb.members {

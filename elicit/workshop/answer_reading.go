@@ -75,7 +75,13 @@ func ParseConfidence(raw string) (float64, error) {
 // whose every value (typed of count) carried a % sign or was read in the
 // percent unit. Chips are counts.
 func KeptInPercent(q Question, typed, count int) bool {
-	return q.IsProportion() && q.Format != FormatChips && count > 0 && typed == count
+	return q.ValuesInPercent() && count > 0 && typed == count
+}
+
+// ValuesInPercent says the question's values may be typed, kept and shown
+// in percent: a proportion's values, not a chips question's counts.
+func (q Question) ValuesInPercent() bool {
+	return q.IsProportion() && q.Format != FormatChips
 }
 
 // FieldIndex reads the index of an answer's field as Problems and Fit
