@@ -107,7 +107,7 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 
 // SaveRevisions appends several revisions in one transaction, each under
 // SaveRevision's rules: all are saved, or none (the error names the
-// index of the first refused, as "revisions[i]"). It is for judgements
+// first refused, a *workshop.RevisionRefused with its index). It is for judgements
 // the facilitator imports from a file.
 func (db *DB) SaveRevisions(ctx context.Context, rs []workshop.Revision) error {
 	return db.saveRevisions(ctx, rs, nil)
@@ -123,7 +123,7 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 			rs[i].EnteredBy = workshop.ByExpert
 		}
 		if err := rs[i].CheckProvenance(); err != nil {
-			return fmt.Errorf("revisions[%d]: %w", i, err)
+			return &workshop.RevisionRefused{Index: i, Err: err}
 		}
 		var err error
 		if enc[i].values, err = marshalList(rs[i].Answer.Values); err != nil {
@@ -141,7 +141,7 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 	return write(ctx, func(tx *sql.Tx) error {
 		for i := range rs {
 			if err := saveRevision(ctx, tx, &rs[i], enc[i].values, enc[i].counts, at); err != nil {
-				return fmt.Errorf("revisions[%d]: %w", i, err)
+				return &workshop.RevisionRefused{Index: i, Err: err}
 			}
 		}
 		if also != nil {

@@ -59,7 +59,7 @@ type Store interface {
 	// the workshop's round is not open; it sets ID, Round and At.
 	SaveRevision(ctx context.Context, r *workshop.Revision) error
 	// SaveRevisions saves several under SaveRevision's rules, all or none;
-	// an error names the first refused as "revisions[i]: ...".
+	// an error names the first refused (*workshop.RevisionRefused, "revisions[i]: ...").
 	SaveRevisions(ctx context.Context, rs []workshop.Revision) error
 	// SaveImportedRevisions is SaveRevisions for an answer sheet's rows,
 	// recording workshop.EventAnswersImported with imp in the same

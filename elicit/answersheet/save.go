@@ -2,8 +2,6 @@ package answersheet
 
 import (
 	"errors"
-	"fmt"
-	"strings"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -41,17 +39,16 @@ func RoundClosed(round int, rows []Row) error {
 
 // RefusalAtRow names the row a store's refusal of the rows' revisions
 // concerns (the round closed, a question revealed, retired or corrected,
-// an expert revoked since the sheet was read): the store says
-// "revisions[i]: " and wraps the workshop's sentinel error. Any other
-// error, and nil, come back as they are; round is the workshop's.
+// an expert revoked since the sheet was read): the store returns a
+// *workshop.RevisionRefused naming the revision, which wraps the
+// workshop's sentinel error. Any other error, and nil, come back as they
+// are; round is the workshop's.
 func RefusalAtRow(err error, round int, rows []Row) error {
-	var i int
-	if err == nil || !strings.HasPrefix(err.Error(), "revisions[") {
+	var rr *workshop.RevisionRefused
+	if !errors.As(err, &rr) || rr.Index < 0 || rr.Index >= len(rows) {
 		return err
 	}
-	if _, scanErr := fmt.Sscanf(err.Error(), "revisions[%d]", &i); scanErr != nil || i < 0 || i >= len(rows) {
-		return err
-	}
+	i := rr.Index
 	line := rows[i].Line
 	switch {
 	case errors.Is(err, workshop.ErrRoundClosed):

@@ -29,7 +29,7 @@ func TestRefusalAtRow(t *testing.T) {
 		{workshop.ErrRevoked, "row 5, column expert", RuleExpert, "Bruno Ferrante"},
 		{workshop.ErrNotFound, "row 5, column expert", RuleExpert, "Bruno Ferrante"},
 	} {
-		err := RefusalAtRow(fmt.Errorf("revisions[1]: %w", c.cause), 2, rows)
+		err := RefusalAtRow(&workshop.RevisionRefused{Index: 1, Err: c.cause}, 2, rows)
 		var ie *elicit.InputError
 		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != c.rule || ie.Detail != c.detail {
 			t.Errorf("%v: %v, want %s: %s (%s)", c.cause, err, c.field, c.rule, c.detail)
@@ -38,8 +38,9 @@ func TestRefusalAtRow(t *testing.T) {
 	for _, err := range []error{
 		nil,
 		errors.New("disk I/O error"),
-		fmt.Errorf("revisions[2]: %w", workshop.ErrRetired), // no such row
-		fmt.Errorf("revisions[0]: %w", errors.New("database is locked")),
+		&workshop.RevisionRefused{Index: 2, Err: workshop.ErrRetired}, // no such row
+		&workshop.RevisionRefused{Index: 0, Err: errors.New("database is locked")},
+		fmt.Errorf("revisions[1]: %w", workshop.ErrRetired), // words alike, not the store's refusal
 	} {
 		if got := RefusalAtRow(err, 2, rows); got != err {
 			t.Errorf("%v came back as %v", err, got)

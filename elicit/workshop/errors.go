@@ -33,6 +33,18 @@ var (
 	ErrNoData = errors.New("no data have been recorded for the question")
 )
 
+// RevisionRefused is storage's refusal of one of several revisions saved
+// together (all or none): Index is its place in the list, Err why (one of
+// the sentinel errors above, or an input rule). Its text is
+// "revisions[Index]: " and Err's.
+type RevisionRefused struct {
+	Index int
+	Err   error
+}
+
+func (e *RevisionRefused) Error() string { return fmt.Sprintf("revisions[%d]: %v", e.Index, e.Err) }
+func (e *RevisionRefused) Unwrap() error { return e.Err }
+
 // inputErr is an *elicit.InputError for field with a formatted detail.
 func inputErr(field string, rule elicit.Rule, format string, args ...any) *elicit.InputError {
 	return &elicit.InputError{Field: field, Rule: rule, Detail: fmt.Sprintf(format, args...)}
