@@ -259,3 +259,78 @@ func TestQuickPriorsInBrowser(t *testing.T) {
 		t.Fatalf("stored %+v", cur)
 	}
 }
+
+// TestStudyTablesOnAPhone: at 390 px the study page's tables read as
+// blocks of labelled lines, each prior of the comparison and each batch
+// of data one block, so neither the page nor any table scrolls sideways
+// (the comparison's seven columns ran past the screen's edge and scrolled
+// inside their box). Each cell carries its column's label, shown before
+// it; at 1366 px they are tables with their header row.
+func TestStudyTablesOnAPhone(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	wss, _ := site.DB.Workshops(ctx)
+	ws := wss[0]
+	qs, _ := site.DB.Questions(ctx, ws.ID)
+	for _, b := range []workshop.StudyData{
+		{QuestionID: qs[0].ID, Successes: 3, Trials: 120, Source: "Field returns, first quarter (invented)", ObservedOn: "2026-03-31"},
+		{QuestionID: qs[0].ID, Successes: 5, Trials: 80, Source: "Field returns, second quarter (invented)", ObservedOn: "2026-06-30"},
+	} {
+		if err := site.DB.RecordData(ctx, &b); err != nil {
+			t.Fatal(err)
+		}
+	}
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	lead := br.person("project lead")
+	signIn(t, site, lead)
+	page := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(qs[0].ID, 10) +
+		"/study?trials=200&threshold=0.08&direction=below&confidence=0.95&length=0.04&level=0.95"
+	// Each stacked table's visible cells: its text, the label drawn before
+	// it, its column's heading, and whether the row's cells share a left edge.
+	const cells = `[...document.querySelectorAll(".compare-table, .table-study-data")].flatMap(t => {
+		const heads = [...t.tHead.rows[0].cells].map(c => c.textContent.trim());
+		return [...t.tBodies[0].rows].flatMap(r => [...r.cells].filter(c => c.tagName === "TD" && c.textContent.trim() !== "").map(c => ({
+			table: t.className, text: c.textContent.trim(), head: heads[c.cellIndex],
+			label: getComputedStyle(c, "::before").content,
+			stacked: new Set([...r.cells].filter(x => x.getClientRects().length).map(x => Math.round(x.getBoundingClientRect().left))).size === 1,
+		})));
+	})`
+	type cell struct {
+		Table, Text, Head, Label string
+		Stacked                  bool
+	}
+	for _, w := range []int64{390, 1366} {
+		lead.viewport(w, 900, w < 600)
+		if st := lead.open(page); st != http.StatusOK {
+			t.Fatalf("study page at %d px: %d", w, st)
+		}
+		lead.sees("study page", "For the recorded data", "For the planned study", "All 2 batches")
+		fits(t, lead, "study page", w)
+		got := eval[[]cell](lead, "the tables' cells", cells)
+		if n := len(got); n < 2*6*6+2*5 {
+			t.Fatalf("at %d px: %d cells in the comparison and data tables, want two comparisons of six priors and two batches", w, n)
+		}
+		shots.take(lead, fmt.Sprintf("study-06-tables-%d", w))
+		if w > 600 {
+			if !lead.visible(`.compare-table thead`) {
+				t.Errorf("at %d px the comparison has no header row", w)
+			}
+			continue
+		}
+		if wide := eval[[]string](lead, "tables scrolling sideways", `[...document.querySelectorAll("main .table, main .table-scroll, main .chart-table")].filter(b => b.getClientRects().length && b.scrollWidth > b.clientWidth + 1).map(b => b.className + " " + b.scrollWidth + " > " + b.clientWidth)`); len(wide) > 0 {
+			t.Errorf("at %d px a table scrolls sideways: %q", w, wide)
+		}
+		for _, c := range got {
+			if want := `"` + c.Head + `: "`; c.Label != want {
+				t.Errorf("at %d px %s: the cell %q is labelled %s, want %s", w, c.Table, c.Text, c.Label, want)
+			}
+			if !c.Stacked {
+				t.Errorf("at %d px %s: the row of %q lays its cells side by side", w, c.Table, c.Text)
+			}
+		}
+	}
+}
