@@ -167,6 +167,9 @@ func putBuffer(b *bytes.Buffer) {
 
 // renderPage wraps body in the page shell described by m.
 func (s *Server) renderPage(w http.ResponseWriter, r *http.Request, status int, m pageMeta, body templ.Component) {
+	if m.Path == "" {
+		m.Path = r.URL.Path
+	}
 	s.render(w, r, status, page(m, body))
 }
 

@@ -164,7 +164,9 @@ func (s *Server) showStudy(w http.ResponseWriter, r *http.Request, ws workshop.W
 	if !df.OK() || !v.Plan.Form.OK() {
 		status = df.refusedStatus()
 	}
-	m := facilitatorMeta(ws, fmt.Sprintf("Q%d study: %s", q.Position, q.Quantity), "overview")
+	// The study has no item in the menu: none is marked current (it was
+	// "overview", which named the workshop's overview as this page).
+	m := facilitatorMeta(ws, fmt.Sprintf("Q%d study: %s", q.Position, q.Quantity), "")
 	m.Caution = true
 	s.renderPage(w, r, status, m, studyPage(v))
 }

@@ -4,6 +4,7 @@ import (
 	"context"
 	"net/http"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 	"time"
@@ -104,6 +105,52 @@ func TestStudyUpdateBeyondTheLimitReads(t *testing.T) {
 		}
 		if strings.Contains(body, "elicit:") {
 			t.Errorf("%s shows the package's message", page)
+		}
+	}
+}
+
+// The menu marks the page it leads to as current, and a page within its
+// section (a question's panel within the overview) as in it; the study
+// page has no item of its own, so it marks none: it marked "Overview",
+// which told a screen reader and the eye that the study was the overview.
+func TestMenuMarksTheCurrentPage(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	link := regexp.MustCompile(`<a class="nav-link[^"]*" href="([^"]*)"([^>]*)>([^<]*)</a>`)
+	base := workshopPath(ws.ID)
+	for _, c := range []struct {
+		page, want, current string // want: the item marked; current: its aria-current
+	}{
+		{studyPath(ws.ID, qs[0].ID), "", ""},
+		{studyPath(ws.ID, qs[0].ID) + "?trials=60", "", ""},
+		{base, "Overview", "page"},
+		{questionPath(ws.ID, qs[0].ID), "Overview", "true"},
+		{base + "/quick-priors", "Quick priors", "page"},
+		{base + "/report", "Report", "page"},
+	} {
+		res, body := h.get(c.page)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", c.page, res.StatusCode)
+		}
+		nav, _, ok := strings.Cut(body[strings.Index(body, `<nav class="nav"`)+1:], "</nav>")
+		if !ok {
+			t.Fatalf("%s: no menu", c.page)
+		}
+		var marked []string
+		for _, m := range link.FindAllStringSubmatch(nav, -1) {
+			attr := regexp.MustCompile(`aria-current="([a-z]+)"`).FindStringSubmatch(m[2])
+			isCurrent := strings.Contains(m[0], `nav-link current"`)
+			if (attr != nil) != isCurrent {
+				t.Errorf("%s: %q is marked current to the eye (%v) but not in aria-current (%q), or the other way round", c.page, m[3], isCurrent, m[2])
+			}
+			if attr != nil {
+				marked = append(marked, m[3])
+				if m[3] == c.want && attr[1] != c.current {
+					t.Errorf("%s: %q has aria-current=%q, want %q", c.page, m[3], attr[1], c.current)
+				}
+			}
+		}
+		if want := []string{c.want}; c.want == "" && len(marked) > 0 || c.want != "" && !slices.Equal(marked, want) {
+			t.Errorf("%s: the menu marks %q as current, want %q", c.page, marked, c.want)
 		}
 	}
 }
