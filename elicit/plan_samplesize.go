@@ -121,7 +121,23 @@ func (g SampleSizeGoal) Validate() error {
 const (
 	RuleTrimRange   Rule = "must be at least 0 and below 1"
 	RuleTrimWOCOnly Rule = "applies only to the worst outcome criterion (woc)"
+	// RuleSizeNeedsLength: a setting of the goal (its level, criterion,
+	// interval or trim) given without the interval's length.
+	RuleSizeNeedsLength Rule = "applies to the sample size: give the interval's length too"
 )
+
+// CheckSizeSettings refuses settings of a sample-size goal given without
+// the goal's length: with no length no sample size is worked out, so a
+// level, criterion, interval or trim typed alone would be dropped in
+// silence. withLength says whether the length was given; given names the
+// settings that were, in the order to report them, and the error names
+// the first. The command line and the study page's form both ask it.
+func CheckSizeSettings(withLength bool, given ...string) error {
+	if withLength || len(given) == 0 {
+		return nil
+	}
+	return &InputError{Field: given[0], Rule: RuleSizeNeedsLength}
+}
 
 // met reports whether a criterion's value meets the goal: an average or
 // worst width at most Length (ALC, WOC), or an average coverage at least

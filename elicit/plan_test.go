@@ -711,3 +711,19 @@ func TestSampleSizeSaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
 		t.Fatalf("%d reference rows, want 12", rows)
 	}
 }
+
+// CheckSizeSettings: a sample-size setting without the goal's length is
+// refused, naming the first given; with the length, or with none given,
+// nothing is refused.
+func TestCheckSizeSettings(t *testing.T) {
+	if err := CheckSizeSettings(true, "level", "criterion"); err != nil {
+		t.Errorf("with a length: %v", err)
+	}
+	if err := CheckSizeSettings(false); err != nil {
+		t.Errorf("nothing given: %v", err)
+	}
+	var ie *InputError
+	if err := CheckSizeSettings(false, "level", "woc_trim"); !errors.As(err, &ie) || ie.Field != "level" || ie.Rule != RuleSizeNeedsLength {
+		t.Errorf("a level without a length: %v", err)
+	}
+}

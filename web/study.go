@@ -27,6 +27,10 @@ import (
 // Defaults of the planning form when the page is opened afresh.
 const (
 	defaultPlanTrials = 100
+	// defaultPlanLevel is the sample size's level when a length is given
+	// without one, as `parley plan --level` defaults. The form's field
+	// starts empty: a level typed without a length is refused.
+	defaultPlanLevel = "0.95"
 	// planCurvePoints is how many numbers of trials the assurance curve
 	// has, as in `parley plan`.
 	planCurvePoints = 40
@@ -295,7 +299,7 @@ func planStudy(ctx context.Context, p planView) planView {
 	if f.Value("trials") == "" && len(f.Values) == 0 {
 		f.Values.Set("trials", strconv.Itoa(defaultPlanTrials))
 	}
-	for name, def := range map[string]string{"level": "0.95", "criterion": string(elicit.CriterionALC),
+	for name, def := range map[string]string{"criterion": string(elicit.CriterionALC),
 		"interval": string(elicit.IntervalEqual), "direction": string(elicit.DirectionBelow), "prior": p.Default} {
 		if f.Value(name) == "" {
 			f.Values.Set(name, def)
@@ -330,7 +334,21 @@ func planStudy(ctx context.Context, p planView) planView {
 		}
 		p.Goal = &g
 	}
-	if f.Value("length") != "" {
+	// As on the command line (elicit.CheckSizeSettings): a level or a
+	// worst outcome's trim belongs to a sample size, which needs its
+	// interval's length. (The criterion and interval are choices the form
+	// always sends, so they cannot be told apart from their defaults.)
+	var sizeSettings []string
+	for _, name := range []string{"level", "woc_trim"} {
+		if strings.TrimSpace(f.Value(name)) != "" {
+			sizeSettings = append(sizeSettings, name)
+		}
+	}
+	f.Fail(elicit.CheckSizeSettings(strings.TrimSpace(f.Value("length")) != "", sizeSettings...), nil)
+	if strings.TrimSpace(f.Value("length")) != "" {
+		if strings.TrimSpace(f.Value("level")) == "" {
+			f.Values.Set("level", defaultPlanLevel)
+		}
 		g := elicit.SampleSizeGoal{
 			Length:    f.Float("length"),
 			Level:     f.Float("level"),
@@ -342,10 +360,6 @@ func planStudy(ctx context.Context, p planView) planView {
 			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
 		}
 		p.Size = &g
-	} else if strings.TrimSpace(f.Value("woc_trim")) != "" {
-		// As on the command line: the worst outcome's trim belongs to
-		// a sample size, which needs its interval's length.
-		f.set("woc_trim", "applies to the sample size: give the interval's length too")
 	}
 	if !f.OK() {
 		return p

@@ -177,6 +177,7 @@ func TestStudyPlanRefusesBadInput(t *testing.T) {
 		{"trials=50&length=0.05&level=0.95&criterion=woc&woc_trim=1", "woc_trim"},
 		{"trials=50&length=0.000001&level=0.95&criterion=woc", "length"}, // no n up to 100,000 meets it
 		{"trials=50&woc_trim=0.05", "woc_trim"},                          // a trim without a sample size is not dropped in silence
+		{"trials=50&level=0.9", "level"},                                 // nor a level (TestStudyPlanLevelNeedsALength)
 	} {
 		res, body := h.get(sp + "?" + c.query)
 		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) {
@@ -837,5 +838,49 @@ func TestStudySaysWhenTheCriterionIsNotEvaluatedAtThePlannedTrials(t *testing.T)
 	if _, body := h.get(sp + "?trials=200&length=0.04&level=0.95&criterion=alc&interval=equal"); strings.Contains(body, "size-at-trials-not-evaluated") ||
 		!strings.Contains(body, "At the planned 200 trials the expected width is") {
 		t.Error("at 200 planned trials the criterion is not given")
+	}
+}
+
+// TestStudyPlanLevelNeedsALength: a level typed without an interval
+// length was taken and dropped in silence (no sample size is worked out
+// without a length), where `parley plan --level 0.9` without --length
+// exits 2. The page now refuses it the same way, by elicit's one rule
+// (CheckSizeSettings): 422, the level named with the rule beside it, no
+// plan drawn and nothing saved. A length without a level is taken at
+// 0.95, as on the command line; the form as served keeps the level empty,
+// so planning without a sample size needs no clearing of it.
+func TestStudyPlanLevelNeedsALength(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	before := h.studyCounts(ws.ID)
+	rule := htmlEscape(string(elicit.RuleSizeNeedsLength))
+	for _, query := range []string{"trials=50&level=0.9", "trials=50&level=0.95&criterion=alc&interval=equal&direction=below", "trials=50&length=&level=0.8"} {
+		res, body := h.get(sp + "?" + query)
+		if res.StatusCode != http.StatusUnprocessableEntity {
+			t.Errorf("%s: status %d, want 422", query, res.StatusCode)
+		}
+		if !hasFieldError(body, "level") || !strings.Contains(body, rule) {
+			t.Errorf("%s: beside the level: %v, says %q: %v", query, hasFieldError(body, "level"), elicit.RuleSizeNeedsLength, strings.Contains(body, rule))
+		}
+		if strings.Contains(body, "What the study may see") {
+			t.Errorf("%s: a plan was drawn from a refused form", query)
+		}
+	}
+	if after := h.studyCounts(ws.ID); after != before {
+		t.Errorf("refused plans changed the data and events: %v, then %v", before, after)
+	}
+	// The served form: the level empty, and submitted as it is (with its
+	// choices' defaults) it plans.
+	res, body := h.get(sp)
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, `name="level" value=""`) {
+		t.Errorf("fresh page: %d; the level field is not empty", res.StatusCode)
+	}
+	if res, body := h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim="); res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
+		t.Errorf("the served form without a sample size: %d", res.StatusCode)
+	}
+	// A length alone: the level 0.95, as `parley plan --length` takes it.
+	res, body = h.get(sp + "?trials=60&length=0.06")
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "its equal-tailed 95% intervals are on average at most 0.06 wide") {
+		t.Errorf("a length alone: %d, the goal at 95%% in words: %v", res.StatusCode, strings.Contains(body, "95% intervals are on average at most 0.06 wide"))
 	}
 }

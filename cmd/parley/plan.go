@@ -161,12 +161,16 @@ func checkPlanGroups(a planArgs) error {
 			break
 		}
 	}
-	if !a.set["length"] {
-		for _, f := range []string{"level", "criterion", "interval", "woc-trim", "exhaustive"} {
-			if a.set[f] {
-				return badInput(f, "applies to the sample size: give --length too")
-			}
+	var given []string
+	for _, f := range []string{"level", "criterion", "interval", "woc-trim", "exhaustive"} {
+		if a.set[f] {
+			given = append(given, f)
 		}
+	}
+	var ie *elicit.InputError
+	if errors.As(elicit.CheckSizeSettings(a.set["length"], given...), &ie) {
+		// elicit's rule, in the words of the flags.
+		return badInput(ie.Field, "applies to the sample size: give --length too")
 	}
 	return nil
 }
