@@ -467,14 +467,15 @@ func (s *Server) recordData(w http.ResponseWriter, r *http.Request) {
 type predictiveRow struct{ X, P, Cum string }
 
 // predictiveRows lists the outcomes with predictive probability of at
-// least 1e-4, with their cumulative probability; beyond 60 such outcomes
+// least chart.PredictiveListed (1e-4; the picture draws them all), with
+// their cumulative probability; beyond 60 such outcomes
 // every k-th is kept (evenly thinned, so the table spans the same range
 // with at most 60 rows; `parley plan --format json` lists them all).
 func predictiveRows(pmf []float64) []predictiveRow {
 	var rows []predictiveRow
 	cdf := elicit.PredictiveCDF(pmf)
 	for x, p := range pmf {
-		if p >= 1e-4 {
+		if p >= chart.PredictiveListed {
 			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatProbability(min(cdf[x], 1))})
 		}
 	}

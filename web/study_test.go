@@ -884,3 +884,48 @@ func TestStudyPlanLevelNeedsALength(t *testing.T) {
 		t.Errorf("a length alone: %d, the goal at 95%% in words: %v", res.StatusCode, strings.Contains(body, "95% intervals are on average at most 0.06 wide"))
 	}
 }
+
+// TestStudyPredictivePictureCoversTheTable: the predictive picture drew
+// outcomes by its tails' rule (each tail up to 5e-4 left out) and the table
+// beside it listed every outcome of probability 1e-4 or more, so under the
+// demo's agreed prior with 200 trials the table ran to 43 successes and
+// the picture stopped at 42. Every count the table lists is now drawn:
+// the bars of the page's picture span the table's rows.
+func TestStudyPredictivePictureCoversTheTable(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	rowRe := regexp.MustCompile(`<tr><td>(\d+)</td>`)
+	drawnRe := regexp.MustCompile(`Outcomes from (\d+) to (\d+) are drawn`)
+	barRe := regexp.MustCompile(`<rect class="bar[ "]`)
+	for _, query := range []string{"trials=200", "trials=100", "trials=20", "prior=0&trials=200", "prior=2&trials=60"} {
+		res, body := h.get(sp + "?" + query)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", query, res.StatusCode)
+		}
+		i := strings.Index(body, `class="chart-table predictive-table"`)
+		j := strings.Index(body[i:], "</table>")
+		if i < 0 || j < 0 {
+			t.Fatalf("%s: no predictive table", query)
+		}
+		var rows []int
+		for _, m := range rowRe.FindAllStringSubmatch(body[i:i+j], -1) {
+			x, _ := strconv.Atoi(m[1])
+			rows = append(rows, x)
+		}
+		trials, _ := strconv.Atoi(query[strings.LastIndex(query, "=")+1:])
+		lo, hi := 0, trials
+		fig := body[strings.Index(body, `<figure class="chart chart-study" id="predictive"`):]
+		fig = fig[:strings.Index(fig, "</figure>")]
+		if m := drawnRe.FindStringSubmatch(fig); m != nil {
+			lo, _ = strconv.Atoi(m[1])
+			hi, _ = strconv.Atoi(m[2])
+		}
+		// One bar per outcome in each of the two drawings (wide, compact).
+		if bars := len(barRe.FindAllString(fig, -1)); bars != 2*(hi-lo+1) {
+			t.Errorf("%s: %d bars, want one per outcome %d to %d in each drawing", query, bars, lo, hi)
+		}
+		if len(rows) == 0 || rows[0] < lo || rows[len(rows)-1] > hi {
+			t.Errorf("%s: the table lists %v, the picture draws %d to %d", query, rows, lo, hi)
+		}
+	}
+}

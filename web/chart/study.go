@@ -119,6 +119,11 @@ type predictiveModel struct {
 // at each end: outcomes further out are drawn as nothing at this scale.
 const predictiveTail = 5e-4
 
+// PredictiveListed is the predictive probability from which an outcome
+// is listed in the table beside the picture; the picture draws every
+// outcome so listed, even one in a tail it would leave out.
+const PredictiveListed = 1e-4
+
 // Predictive draws the prior predictive distribution as bars.
 func Predictive(v PredictiveView) templ.Component { return predictiveFigure(newPredictiveModel(v)) }
 
@@ -151,6 +156,14 @@ func newPredictiveModel(v PredictiveView) predictiveModel {
 	}
 	if hi < lo {
 		lo, hi = 0, len(v.PMF)-1
+	}
+	// The tails' rule alone stopped the picture one outcome short of the
+	// table's last row (an outcome of probability 2e-4 at the end of a
+	// tail holding 5e-4 in all): the window takes in every listed outcome.
+	for x, p := range v.PMF {
+		if p >= PredictiveListed {
+			lo, hi = min(lo, x), max(hi, x)
+		}
 	}
 	// Beyond maxPredictiveBars outcomes, consecutive outcomes are grouped
 	// into bins of width w and each bar is the bin's total probability:
