@@ -3,8 +3,10 @@ package main
 import (
 	"bytes"
 	"context"
+	"database/sql"
 	"encoding/csv"
 	"encoding/json"
+	"errors"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -12,6 +14,7 @@ import (
 	"testing"
 	"time"
 
+	_ "github.com/mattn/go-sqlite3"
 	"github.com/santhosh-tekuri/jsonschema/v6"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -397,5 +400,67 @@ func TestStoreCommandsRefuseADatabaseWithTwoNames(t *testing.T) {
 		if _, err := os.Stat(hard + suffix); !os.IsNotExist(err) {
 			t.Errorf("a refused command made %s%s", hard, suffix)
 		}
+	}
+}
+
+// A batch whose day observed is before 1900 was recorded before the form
+// refused such days (a year typed as 0026); `parley export` wrote it and
+// `parley import` refused the record, so a workshop holding one could not
+// be brought back. The import takes the record as written; new batches,
+// typed or added through the store, keep the 1900 rule. The old batches
+// are written into the SQLite file as the earlier version stored them.
+func TestImportTakesADayObservedBeforeTheRule(t *testing.T) {
+	path, wid, qid := cliWorkshop(t)
+	ctx := context.Background()
+	db, err := store.Open(path)
+	check(t, err)
+	check(t, db.RecordData(ctx, &workshop.StudyData{QuestionID: qid, Successes: 2, Trials: 30, Source: "pilot (invented)", ObservedOn: "2026-01-15"}))
+	check(t, db.Close())
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	at := time.Now().UTC().Format(time.RFC3339Nano)
+	for _, day := range []string{"0026-03-31", "1899-12-31"} {
+		if _, err := raw.Exec(`INSERT INTO study_data (question_id, successes, trials, source, observed_on, at) VALUES (?, 1, 20, 'site log (invented)', ?, ?)`, qid, day, at); err != nil {
+			t.Fatal(err)
+		}
+	}
+	check(t, raw.Close())
+
+	ws := strconv.FormatInt(wid, 10)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", file); code != exitOK {
+		t.Fatalf("export: exit %d: %s", code, errs)
+	}
+	other := filepath.Join(t.TempDir(), "other.db")
+	code, out, errs := run("import", "--db", other, "--in", file)
+	if code != exitOK {
+		t.Fatalf("import of a record holding days observed before 1900: exit %d: %s", code, errs)
+	}
+	id, err := strconv.ParseInt(strings.TrimSpace(out), 10, 64)
+	check(t, err)
+	back, err := store.Open(other)
+	check(t, err)
+	defer back.Close()
+	data, err := back.StudyData(ctx, id)
+	check(t, err)
+	var days []string
+	for _, d := range data {
+		days = append(days, d.ObservedOn)
+	}
+	if strings.Join(days, " ") != "2026-01-15 0026-03-31 1899-12-31" {
+		t.Errorf("days observed after the import: %v", days)
+	}
+	code, again, errs := run("export", "--db", other, "--workshop", strings.TrimSpace(out), "--format", "csv")
+	_, orig, _ := run("export", "--db", path, "--workshop", ws, "--format", "csv")
+	if code != exitOK || again != orig {
+		t.Errorf("the imported workshop exports otherwise (exit %d, %s)", code, errs)
+	}
+	// A new batch keeps the rule.
+	qs, err := back.Questions(ctx, id)
+	check(t, err)
+	var ie *elicit.InputError
+	err = back.RecordData(ctx, &workshop.StudyData{QuestionID: qs[0].ID, Successes: 1, Trials: 5, Source: "typed (invented)", ObservedOn: "0026-04-30"})
+	if !errors.As(err, &ie) || ie.Field != "observed_on" || ie.Rule != input.RuleDateTooEarly {
+		t.Errorf("a new batch observed in 0026: %v, want %q", err, input.RuleDateTooEarly)
 	}
 }

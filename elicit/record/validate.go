@@ -529,9 +529,10 @@ func knownEvent(k workshop.EventKind) bool {
 }
 
 // checkStudyData checks every batch of recorded data: its id, a question
-// of the record with an agreed prior, the batch's own rules
-// (workshop.StudyData.Validate), a time, and each question's total
-// within elicit.MaxUpdateTrials.
+// of the record with an agreed prior, the rules of a batch already
+// recorded (workshop.StudyData.ValidateKept: a day observed before 1900,
+// recorded before the form refused it, comes back), a time, and each
+// question's total within elicit.MaxUpdateTrials.
 func (r Record) checkStudyData(questions map[int64]workshop.Question) error {
 	withPrior := map[int64]bool{}
 	for _, q := range r.Questions {
@@ -555,7 +556,7 @@ func (r Record) checkStudyData(questions map[int64]workshop.Question) error {
 			// As the study page's form: binomial data update a proportion.
 			return inputErr(p+".question_id", elicit.RuleUnknown, "question %d is not a proportion on [0, 1]; binomial data update only a proportion", d.QuestionID)
 		}
-		if err := d.Validate(); err != nil {
+		if err := d.ValidateKept(); err != nil {
 			return under(p, err)
 		}
 		if err := workshop.CheckDataTotal(totals[d.QuestionID], d); err != nil {

@@ -26,11 +26,25 @@ type StudyData struct {
 	At         time.Time `json:"at"`          // when recorded
 }
 
-// Validate checks a batch by the rules of the form it is typed in:
-// 1 ≤ trials ≤ elicit.MaxUpdateTrials, 0 ≤ successes ≤ trials, a source
-// of at most input.MaxShortText characters, and a calendar date. Errors
-// name the field by its JSON key.
+// Validate checks a new batch by the rules of the form it is typed in:
+// ValidateKept's, and the day observed in 1900 or later
+// (input.CheckObservedDate: a year such as 0026 is mistyped, and a batch,
+// never removed, would keep it). Errors name the field by its JSON key.
 func (d StudyData) Validate() error {
+	if err := d.ValidateKept(); err != nil {
+		return err
+	}
+	return input.CheckObservedDate("observed_on", d.ObservedOn)
+}
+
+// ValidateKept checks a batch already recorded, as an imported record
+// holds it: 1 ≤ trials ≤ elicit.MaxUpdateTrials, 0 ≤ successes ≤ trials,
+// a source of at most input.MaxShortText characters, and the day
+// observed a calendar date. It does not hold the day to 1900 or later:
+// that rule guards typing, and a batch recorded before it may hold an
+// earlier year; batches are never changed, so the record brings it back
+// as it was written rather than not at all.
+func (d StudyData) ValidateKept() error {
 	if d.Trials < 1 || d.Trials > elicit.MaxUpdateTrials {
 		return inputErr("trials", elicit.RuleCountRange, "1 to %d, got %d", elicit.MaxUpdateTrials, d.Trials)
 	}
@@ -40,7 +54,7 @@ func (d StudyData) Validate() error {
 	if err := input.CheckText("source", d.Source, input.MaxShortText, true); err != nil {
 		return err
 	}
-	return input.CheckObservedDate("observed_on", d.ObservedOn)
+	return input.CheckDate("observed_on", d.ObservedOn)
 }
 
 // CheckObservedBy refuses a batch observed after the day it is recorded

@@ -206,6 +206,19 @@ func TestStudyDataRules(t *testing.T) {
 			t.Errorf("%+v: %v, want field %s", c.d, err, c.field)
 		}
 	}
+	// A batch already recorded (an imported record's) keeps the rules
+	// but the 1900 one, which guards typing only: a day observed earlier
+	// comes back as written; a day not on the calendar does not.
+	for _, day := range []string{"0026-03-31", "1899-12-31"} {
+		if err := (StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: day}).ValidateKept(); err != nil {
+			t.Errorf("kept, observed on %s: %v", day, err)
+		}
+	}
+	for _, d := range []StudyData{{Successes: 0, Trials: 1, Source: "log", ObservedOn: "2026-02-30"}, {Successes: 2, Trials: 1, Source: "log", ObservedOn: "0026-03-31"}} {
+		if err := d.ValidateKept(); err == nil {
+			t.Errorf("kept: %+v taken", d)
+		}
+	}
 	// Observed at the latest the day after the day recorded (UTC), a
 	// day's grace for a calendar ahead of UTC; worked by hand.
 	at := time.Date(2026, 12, 2, 23, 30, 0, 0, time.UTC)
