@@ -30,7 +30,7 @@ const (
 	// defaultPlanLevel is the sample size's level when a length is given
 	// without one, as `parley plan --level` defaults. The form's field
 	// starts empty: a level typed without a length is refused.
-	defaultPlanLevel = "0.95"
+	defaultPlanLevel = 0.95
 	// planCurvePoints is how many numbers of trials the assurance curve
 	// has, as in `parley plan`.
 	planCurvePoints = 40
@@ -346,12 +346,16 @@ func planStudy(ctx context.Context, p planView) planView {
 	}
 	f.Fail(elicit.CheckSizeSettings(strings.TrimSpace(f.Value("length")) != "", sizeSettings...), nil)
 	if strings.TrimSpace(f.Value("length")) != "" {
-		if strings.TrimSpace(f.Value("level")) == "" {
-			f.Values.Set("level", defaultPlanLevel)
+		// The level left empty is planned at defaultPlanLevel but stays
+		// empty in the form served back, so that clearing the length
+		// next plans without a sample size instead of being refused.
+		level := defaultPlanLevel
+		if strings.TrimSpace(f.Value("level")) != "" {
+			level = f.Float("level")
 		}
 		g := elicit.SampleSizeGoal{
 			Length:    f.Float("length"),
-			Level:     f.Float("level"),
+			Level:     level,
 			Criterion: elicit.Criterion(f.Choice("criterion", "", string(elicit.CriterionALC), string(elicit.CriterionACC), string(elicit.CriterionWOC))),
 			Interval:  elicit.IntervalKind(f.Choice("interval", "", string(elicit.IntervalEqual), string(elicit.IntervalHPD))),
 		}

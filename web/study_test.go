@@ -929,3 +929,25 @@ func TestStudyPredictivePictureCoversTheTable(t *testing.T) {
 		}
 	}
 }
+
+// TestStudyPlanLevelStaysAsTyped: a length given without a level is
+// planned at 0.95, but the form served back keeps the level as the
+// facilitator left it, empty. It was filled with 0.95 by the server, so
+// that clearing the length to plan without a sample size, the next step
+// the form invites, was refused: "level: applies to the sample size".
+func TestStudyPlanLevelStaysAsTyped(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	res, body := h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=0.06&level=&criterion=alc&interval=equal&woc_trim=")
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "95% intervals are on average at most 0.06 wide") {
+		t.Fatalf("a length alone: %d, the goal at 95%% in words: %v", res.StatusCode, strings.Contains(body, "95% intervals are on average at most 0.06 wide"))
+	}
+	if !strings.Contains(body, `name="level" value=""`) {
+		t.Errorf("the form served back after a length alone does not keep the level empty")
+	}
+	// The same form with its length cleared plans without a sample size.
+	res, body = h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim=")
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
+		t.Errorf("the length cleared: %d", res.StatusCode)
+	}
+}
