@@ -151,6 +151,12 @@ func TestRecordMatchesSchema(t *testing.T) {
 	if err := sch.Validate(asJSONValue(t, buildInvented(t))); err != nil {
 		t.Fatalf("built record does not match testdata/export.schema.json: %v", err)
 	}
+	// A judgement read from an answer sheet names it.
+	doc := asJSONValue(t, buildInvented(t)).(map[string]any)
+	doc["revisions"].([]any)[0].(map[string]any)["sheet"] = map[string]any{"file": "", "row": json.Number("2"), "sha256": strings.Repeat("0f", 32)}
+	if err := sch.Validate(doc); err != nil {
+		t.Fatalf("a revision with its answer sheet does not match the schema: %v", err)
+	}
 	// A workshop with nothing in it yet is a valid record too.
 	empty, err := Build(workshop.Snapshot{Workshop: workshoptest.PumpSeals().Workshop,
 		Weights: workshop.Weights{WorkshopID: 7, Scheme: workshop.WeightsEqual}}, t0)
@@ -179,6 +185,12 @@ func TestSchemaRejects(t *testing.T) {
 		}},
 		{"expert with a token", func(d map[string]any) {
 			d["experts"].([]any)[0].(map[string]any)["token"] = "abc"
+		}},
+		{"a sheet without its row", func(d map[string]any) {
+			d["revisions"].([]any)[0].(map[string]any)["sheet"] = map[string]any{"file": "answers.csv", "sha256": strings.Repeat("ab", 32)}
+		}},
+		{"a sheet's SHA-256 not in hex", func(d map[string]any) {
+			d["revisions"].([]any)[0].(map[string]any)["sheet"] = map[string]any{"file": "answers.csv", "row": json.Number("2"), "sha256": "answers"}
 		}},
 		{"unknown answer format", func(d map[string]any) {
 			d["questions"].([]any)[0].(map[string]any)["format"] = "guess"
