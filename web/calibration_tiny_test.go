@@ -75,3 +75,56 @@ func TestScoresBelowTheDoubleRangeAreWritten(t *testing.T) {
 		}
 	}
 }
+
+// TestWeightTooSmallToHoldIsSaidSo: 300 calibration questions at
+// 1/50/99 %, every true value 0; A's answers put 3, 147, 147 and 3 true
+// values in the four bins (calibration 1), B's 150 and 0, 0, 150 (e^−1169.95
+// = 7.878e-509, R 4.2.2's pchisq(…, log.p = TRUE) as in
+// TestScoresBelowTheDoubleRangeAreWritten). B's share of the weight,
+// about e^−1170, is below the double range and reads 0; the pools with
+// and without B are then the same, so the optimised cut-off is B's score
+// (ties go to the smaller α) and B stands at it with weight 0. Its line
+// said "calibration × information is 0", which it is not (6.084e-509).
+func TestWeightTooSmallToHoldIsSaidSo(t *testing.T) {
+	probs := []float64{0.01, 0.5, 0.99}
+	var as []elicit.SeedAssessment
+	real := map[string]float64{}
+	for i := 0; i < 300; i++ {
+		q := fmt.Sprintf("s%03d", i)
+		real[q] = 0
+		var a []float64
+		switch {
+		case i < 3:
+			a = []float64{1, 2, 3}
+		case i < 150:
+			a = []float64{-1, 1, 2}
+		case i < 297:
+			a = []float64{-2, -1, 1}
+		default:
+			a = []float64{-3, -2, -1}
+		}
+		b := []float64{1, 2, 3}
+		if i >= 150 {
+			b = []float64{-3, -2, -1}
+		}
+		as = append(as, elicit.SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
+			elicit.SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
+	}
+	sc, err := elicit.ClassicalModel(as, real, nil, elicit.ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var experts []workshop.PerformanceExpert
+	for i, e := range sc.Experts {
+		experts = append(experts, workshop.PerformanceExpert{ExpertID: int64(i + 1), Name: e.Expert, Answered: e.N,
+			Calibration: e.Calibration, LogCalibration: e.LogCalibration, Information: e.Information, Combined: e.Combined, Weight: e.Weight})
+	}
+	if sc.LogAlpha == nil || experts[1].Weight != 0 || experts[1].Calibration != 0 {
+		t.Fatalf("the scenario: cut-off %v (log %v), B's weight %v and score %v", sc.Alpha, sc.LogAlpha, experts[1].Weight, experts[1].Calibration)
+	}
+	lines := scoreLines(experts, sc.Alpha, sc.LogAlpha)
+	why := lines[1].Why
+	if strings.Contains(why, "is 0") || !strings.Contains(why, "earns 7.878e-509 × 0.7723 = 6.084e-509") || !strings.Contains(why, "too small") {
+		t.Errorf("B's weight of 0 is put as %q", why)
+	}
+}

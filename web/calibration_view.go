@@ -119,6 +119,12 @@ func scoreLines(experts []workshop.PerformanceExpert, alpha float64, logAlpha *f
 			// 0.187753) lies above that score.
 			l.Why = "calibration score " + l.CalibrationText + " is below the cut-off " +
 				chart.FormatValueBeside(alpha, e.Calibration) + ", so weight 0"
+		case e.Information > 0 && (e.Calibration > 0 || elicit.BelowDouble(e.Calibration, e.LogCalibration)):
+			// At or above the cut-off with a product that is not 0, but a
+			// share of e^(ln C + ln I − the largest) below the double
+			// range beside the others': its weight is that share, read 0.
+			l.Why = "earns " + l.CalibrationText + " × " + fv(e.Information) + " = " + combinedText(e) +
+				", a share of what the experts at or above the cut-off earn too small for the computer's numbers (double precision) to hold, so weight 0"
 		default:
 			l.Why = "calibration × information is 0, so weight 0"
 		}
