@@ -960,7 +960,7 @@ func BelowDouble(c, logC float64) bool {
 }
 
 // FormatExp writes e^logV in decimal scientific notation with sig
-// significant figures, such as "7.943e-509" for logV = −1170: a value far
+// significant figures, such as "7.507e-509" for logV = −1170: a value far
 // below the smallest double, which strconv cannot write.
 func FormatExp(logV float64, sig int) string {
 	if math.IsNaN(logV) || math.IsInf(logV, 0) {
