@@ -256,8 +256,8 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 
 // beyondDouble says which of the 5%, 50% and 95% points lie nearer a
 // bound than a double holds, with their values: for Beta(2e-4, 2e-4) the
-// 5% point is about 1e-5016, which a double holds only as 0 (and the 95%
-// point 1 − 1e-5016, which it holds as 1). Nothing shown may be a 0 that
+// 5% point is about 1.0e-5000, which a double holds only as 0 (and the 95%
+// point 1 − 1.0e-5000, which it holds as 1). Nothing shown may be a 0 that
 // is not the value without saying so. Only a shape below 1 can put a
 // point there.
 func beyondDouble(d Beta, proportion bool) (string, bool) {
