@@ -457,7 +457,11 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 	case alpha != nil:
 		a = score{c: *alpha, log: logSub(*alpha)}
 		if maxCal.below(a) {
-			return Scores{}, inputErr("alpha", RuleAlphaTooHigh, "%v above %v", *alpha, maxCal.c)
+			top := strconv.FormatFloat(maxCal.c, 'g', -1, 64)
+			if BelowDouble(maxCal.c, maxCal.log) {
+				top = FormatExp(maxCal.log, 4) // not "0", which is not the score
+			}
+			return Scores{}, inputErr("alpha", RuleAlphaTooHigh, "%v above %s", *alpha, top)
 		}
 	default:
 		a = s.bestAlpha(out.Experts)

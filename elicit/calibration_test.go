@@ -948,3 +948,28 @@ func TestUniformExpertHasNoInformation(t *testing.T) {
 		}
 	}
 }
+
+// TestAlphaAboveScoresBelowTheDoubleRange: a typed cut-off above every
+// expert's score is refused naming the highest score; where that score
+// is below the smallest double (E's, e^−1194.63 as in
+// TestScoreBelowTheDoubleRange) it is written from its logarithm,
+// 1.513e-519 (Python's decimal: exp(-1194.6273835608188) =
+// 1.5133e-519), not as "above 0".
+func TestAlphaAboveScoresBelowTheDoubleRange(t *testing.T) {
+	as, real := seedsWithBins(seedProbs, repeatBin(3, 400))
+	var onlyE []SeedAssessment
+	for _, a := range as {
+		if a.Expert == "E" {
+			onlyE = append(onlyE, a)
+		}
+	}
+	alpha := 0.001
+	_, err := ClassicalModel(onlyE, real, nil, ModelOptions{Alpha: &alpha})
+	var ie *InputError
+	if !errors.As(err, &ie) || ie.Rule != RuleAlphaTooHigh {
+		t.Fatalf("α = 0.001 above a score of e^-1194.6: %v", err)
+	}
+	if ie.Detail != "0.001 above 1.513e-519" {
+		t.Errorf("detail %q, want %q", ie.Detail, "0.001 above 1.513e-519")
+	}
+}
