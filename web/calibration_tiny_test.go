@@ -128,3 +128,27 @@ func TestWeightTooSmallToHoldIsSaidSo(t *testing.T) {
 		t.Errorf("B's weight of 0 is put as %q", why)
 	}
 }
+
+// TestBasisCutOffBelowTheDoubleRangeIsWritten: weights stored with a
+// basis whose optimised cut-off is a score below the smallest double
+// (Alpha 0, ln α = −1169.95, e^that = 7.878e-509 as in
+// TestScoresBelowTheDoubleRangeAreWritten) are described with that
+// cut-off, in the weights form's note and in the sentence the decision
+// log and the record give the basis: both wrote "cut-off α = 0".
+func TestBasisCutOffBelowTheDoubleRangeIsWritten(t *testing.T) {
+	la := -1169.9517750719319
+	b := workshop.WeightBasis{Method: workshop.BasisClassicalModel, Alpha: 0, LogAlpha: &la, AlphaRule: workshop.AlphaOptimised,
+		Probs: []float64{0.01, 0.5, 0.99}}
+	if s := basisSentence(b, nil); !strings.Contains(s, "cut-off α = 7.878e-509") {
+		t.Errorf("basis sentence %q", s)
+	}
+	v := calibrationView{Workshop: workshop.Workshop{ID: 1}, Weights: workshop.Weights{WorkshopID: 1, Scheme: workshop.WeightsPerformance, Basis: &b},
+		WeightsForm: newForm(nil)}
+	var out bytes.Buffer
+	if err := calibrationWeightsForm(v).Render(context.Background(), &out); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(out.String(), "the cut-off α = 7.878e-509") {
+		t.Errorf("weights form's note lacks the cut-off 7.878e-509:\n%s", out.String())
+	}
+}
