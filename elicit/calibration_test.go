@@ -973,3 +973,45 @@ func TestAlphaAboveScoresBelowTheDoubleRange(t *testing.T) {
 		t.Errorf("detail %q, want %q", ie.Detail, "0.001 above 1.513e-519")
 	}
 }
+
+// TestLeaveOneOutCutOffBelowTheDoubleRange: in TestManyCalibrationQuestions'
+// panel, the rerun without B leaves A alone, whose cut-off is its own
+// score e^−1169.95 (R 4.2.2's pchisq(…, log.p = TRUE)); the rerun keeps
+// its logarithm, as Scores does, so that it is not written as 0.
+func TestLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
+	probs := []float64{0.01, 0.5, 0.99}
+	above, below := []float64{-3, -2, -1}, []float64{1, 2, 3}
+	var as []SeedAssessment
+	real := map[string]float64{}
+	for i := 0; i < 300; i++ {
+		q := fmt.Sprintf("s%03d", i)
+		real[q] = 0
+		a, b := below, below
+		if i >= 150 {
+			a = above
+		}
+		if i >= 200 {
+			b = above
+		}
+		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
+			SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
+	}
+	rep, err := LeaveOneOut(as, real, nil, ModelOptions{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	found := false
+	for _, c := range rep.Cases {
+		if c.LeftOut != LeaveOutExpert || c.Name != "B" {
+			continue
+		}
+		found = true
+		const want = -1169.9517750719319
+		if c.Alpha != 0 || c.LogAlpha == nil || math.Abs(*c.LogAlpha-want) > 1e-12*-want {
+			t.Errorf("without B: α %v, ln α %v, want 0 and %v", c.Alpha, c.LogAlpha, want)
+		}
+	}
+	if !found {
+		t.Fatal("no rerun without B")
+	}
+}

@@ -36,9 +36,12 @@ type RobustnessTarget struct {
 // no expert with weight remains. Error, when set, says why the rerun
 // failed; the shifts are then empty.
 type LeaveOneOutCase struct {
-	LeftOut     string             `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
-	Name        string             `json:"name"`
-	Alpha       float64            `json:"alpha"`
+	LeftOut string  `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
+	Name    string  `json:"name"`
+	Alpha   float64 `json:"alpha"`
+	// LogAlpha is ln α where α is a score below the smallest double
+	// (Scores.LogAlpha); nil otherwise.
+	LogAlpha    *float64           `json:"log_alpha,omitempty"`
 	Weights     map[string]float64 `json:"weights"`
 	Percentiles [][]float64        `json:"percentiles,omitempty"`
 	Shifts      []float64          `json:"shifts"`
@@ -99,7 +102,7 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 			rep.Cases = append(rep.Cases, c)
 			return
 		}
-		c.Alpha, c.Weights = s.Alpha, s.Weights()
+		c.Alpha, c.LogAlpha, c.Weights = s.Alpha, s.LogAlpha, s.Weights()
 		c.Shifts = make([]float64, len(watch))
 		c.Percentiles = make([][]float64, len(watch))
 		for t, w := range watch {

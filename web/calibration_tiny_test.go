@@ -152,3 +152,16 @@ func TestBasisCutOffBelowTheDoubleRangeIsWritten(t *testing.T) {
 		t.Errorf("weights form's note lacks the cut-off 7.878e-509:\n%s", out.String())
 	}
 }
+
+// TestRerunCutOffBelowTheDoubleRangeIsWritten: a leave-one-out rerun
+// whose cut-off is a score below the smallest double (ln α = −1169.95,
+// 7.878e-509) shows it in the steadiness table, where it read 0.
+func TestRerunCutOffBelowTheDoubleRangeIsWritten(t *testing.T) {
+	la := -1169.9517750719319
+	rb := &workshop.Robustness{Rows: []workshop.RobustnessRow{{LeftOut: elicit.LeaveOutExpert, ID: 2, Label: "B", Alpha: 0, LogAlpha: &la,
+		Weights: []workshop.ExpertWeight{}, Shifts: []float64{}}}}
+	s := newSteadiness("s", rb, nil, map[int64]string{1: "A", 2: "B"})
+	if len(s.Rows) != 1 || s.Rows[0].Alpha != "7.878e-509" {
+		t.Errorf("rerun rows %+v, want the cut-off 7.878e-509", s.Rows)
+	}
+}

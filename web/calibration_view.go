@@ -266,7 +266,7 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		scored[r.LeftOut]++
 	}
 	for k, r := range rb.Rows {
-		l := rerunLine{Error: rerunError(r, scored[r.LeftOut]), Alpha: fv(r.Alpha), Shift: fv(r.Shift)}
+		l := rerunLine{Error: rerunError(r, scored[r.LeftOut]), Alpha: alphaText(r.Alpha, r.LogAlpha), Shift: fv(r.Shift)}
 		// A rule under the whole panel's row, and between the reruns
 		// without a question and those without an expert.
 		newGroup := k == 0 || rb.Rows[k-1].LeftOut != r.LeftOut

@@ -528,7 +528,11 @@ func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport) error {
 			fmt.Fprintf(tw, "%s\t%s\t\t\t%s\n", c.LeftOut, c.Name, note)
 			continue
 		}
-		fmt.Fprintf(tw, "%s\t%s\t%.4g\t%.4g\t%s\n", c.LeftOut, c.Name, c.Alpha, c.Shift, note)
+		alpha := strconv.FormatFloat(c.Alpha, 'g', 4, 64)
+		if c.LogAlpha != nil {
+			alpha = elicit.FormatExp(*c.LogAlpha, 4) // not 0, which is not the cut-off
+		}
+		fmt.Fprintf(tw, "%s\t%s\t%s\t%.4g\t%s\n", c.LeftOut, c.Name, alpha, c.Shift, note)
 	}
 	return tw.Flush()
 }

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"regexp"
 	"slices"
 	"strconv"
 	"strings"
@@ -670,5 +671,37 @@ func TestCalibrateScoresBelowTheDoubleRange(t *testing.T) {
 	ratio := math.Exp(-1169.9517750719319 + 1186.9344983883962)
 	if !(w["A"] > w["B"]) || math.Abs(w["A"]/w["B"]/ratio-1) > 1e-9 {
 		t.Errorf("weights %v, want A/B = %v", w, ratio)
+	}
+}
+
+// TestCalibrateLeaveOneOutCutOffBelowTheDoubleRange: in
+// TestCalibrateScoresBelowTheDoubleRange's panel the rerun without B
+// leaves A alone, its cut-off A's score e^−1169.95 = 7.878e-509 (R 4.2.2's
+// pchisq(…, log.p = TRUE)); the leave-one-out table wrote it as 0.
+func TestCalibrateLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
+	var b strings.Builder
+	b.WriteString("expert,question,realization,q01,q50,q99\n")
+	for i := 0; i < 300; i++ {
+		a, bq := "1,2,3", "1,2,3"
+		if i >= 150 {
+			a = "-3,-2,-1"
+		}
+		if i >= 200 {
+			bq = "-3,-2,-1"
+		}
+		fmt.Fprintf(&b, "A,s%03d,0,%s\nB,s%03d,0,%s\n", i, a, i, bq)
+	}
+	path := filepath.Join(t.TempDir(), "many.csv")
+	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", path, "--leave-one-out")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	re := regexp.MustCompile(`(?m)^expert +B +(\S+)`)
+	m := re.FindStringSubmatch(out)
+	if m == nil || m[1] != "7.878e-509" {
+		t.Errorf("the rerun without B: cut-off %v, want 7.878e-509:\n%s", m, out)
 	}
 }

@@ -468,10 +468,13 @@ type TargetPool struct {
 // percentile on Targets[t], as a fraction of the question's range; Shift
 // is the largest over targets.
 type RobustnessRow struct {
-	LeftOut  string         `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
-	ID       int64          `json:"id"`
-	Label    string         `json:"label"`
-	Alpha    float64        `json:"alpha"`
+	LeftOut string  `json:"left_out"` // LeaveOutQuestion or LeaveOutExpert
+	ID      int64   `json:"id"`
+	Label   string  `json:"label"`
+	Alpha   float64 `json:"alpha"`
+	// LogAlpha is ln α where α is a score below the smallest double
+	// (elicit.Scores.LogAlpha); nil otherwise.
+	LogAlpha *float64       `json:"log_alpha,omitempty"`
 	Weights  []ExpertWeight `json:"weights"`
 	Pools    []TargetPool   `json:"pools"`
 	Shifts   []float64      `json:"shifts"`
@@ -524,7 +527,7 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	}
 	rb.Full = pools(rep.Full)
 	for _, c := range rep.Cases {
-		row := RobustnessRow{LeftOut: c.LeftOut, ID: ids[c.Name], Label: labels[c.Name], Alpha: c.Alpha,
+		row := RobustnessRow{LeftOut: c.LeftOut, ID: ids[c.Name], Label: labels[c.Name], Alpha: c.Alpha, LogAlpha: c.LogAlpha,
 			Weights: []ExpertWeight{}, Pools: pools(c.Percentiles), Shifts: c.Shifts, Shift: c.Shift, Error: c.Error}
 		if row.Shifts == nil {
 			row.Shifts = []float64{}
