@@ -494,7 +494,7 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 		return err
 	}
 	if below {
-		_, err := fmt.Fprintln(w, "\nScores below 1e-308, the smallest a double holds, are worked in logarithms and written from them.")
+		_, err := fmt.Fprintln(w, "\nScores below 2.2e-308, the smallest a double holds at full precision, are worked in logarithms and written from them.")
 		return err
 	}
 	return nil

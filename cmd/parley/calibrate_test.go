@@ -655,7 +655,7 @@ func TestCalibrateScoresBelowTheDoubleRange(t *testing.T) {
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
-	for _, want := range []string{"7.878e-509", "3.318e-516", "Scores below 1e-308"} {
+	for _, want := range []string{"7.878e-509", "3.318e-516", "Scores below 2.2e-308, the smallest a double holds at full precision"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text output lacks %q:\n%s", want, out)
 		}
