@@ -367,3 +367,30 @@ func TestSentOnceMakesRoomForANewPost(t *testing.T) {
 		t.Error("the new post sent again runs again")
 	}
 }
+
+// No field cuts what is typed or pasted into it: a browser stops a field
+// with maxlength at its limit without a word (a pasted name or title of
+// 250 characters was kept as its first 200). The server refuses a text
+// that is too long, beside its field, and keeps it there to be
+// shortened; text areas count down to their limit (data-max-chars).
+func TestNoFieldCutsAPaste(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ex := newHarnessOn(t, h)
+	pages := []string{"/", workshopPath(ws.ID), workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/delete",
+		questionPath(ws.ID, qs[0].ID), questionPath(ws.ID, qs[0].ID) + "/edit", questionPath(ws.ID, qs[0].ID) + "/reasons",
+		studyPath(ws.ID, qs[0].ID), quickPriorsPath(ws.ID), calibrationPath(ws.ID), entryPath(ws.ID, qs[0].ID, es[0].ID),
+		workshopPath(ws.ID) + "/answers/import"}
+	for _, p := range pages {
+		res, body := h.get(p)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", p, res.StatusCode)
+		}
+		if i := strings.Index(body, "maxlength"); i >= 0 {
+			t.Errorf("%s: a field cuts a paste: %s", p, body[max(0, i-120):i+30])
+		}
+	}
+	res, body := ex.get(strings.TrimSuffix(links[0].Path, "/") + "/q/" + strconv.FormatInt(qs[0].ID, 10))
+	if res.StatusCode != http.StatusOK || strings.Contains(body, "maxlength") {
+		t.Errorf("the expert's question page (%d) has a field that cuts a paste", res.StatusCode)
+	}
+}
