@@ -751,23 +751,7 @@ func TestScoreBelowTheDoubleRange(t *testing.T) {
 // (testdata/r/pchisq_log_tail_reference.R, its two "cases"). Before, both
 // scores were 0 and the model refused the panel.
 func TestManyCalibrationQuestions(t *testing.T) {
-	probs := []float64{0.01, 0.5, 0.99}
-	above, below := []float64{-3, -2, -1}, []float64{1, 2, 3}
-	var as []SeedAssessment
-	real := map[string]float64{}
-	for i := 0; i < 300; i++ {
-		q := fmt.Sprintf("s%03d", i)
-		real[q] = 0
-		a, b := below, below
-		if i >= 150 {
-			a = above
-		}
-		if i >= 200 {
-			b = above
-		}
-		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
-			SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
-	}
+	as, real := manySeeds()
 	for _, alpha := range []*float64{nil, new(float64)} {
 		s, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: alpha})
 		if err != nil {
@@ -979,23 +963,7 @@ func TestAlphaAboveScoresBelowTheDoubleRange(t *testing.T) {
 // score e^−1169.95 (R 4.2.2's pchisq(…, log.p = TRUE)); the rerun keeps
 // its logarithm, as Scores does, so that it is not written as 0.
 func TestLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
-	probs := []float64{0.01, 0.5, 0.99}
-	above, below := []float64{-3, -2, -1}, []float64{1, 2, 3}
-	var as []SeedAssessment
-	real := map[string]float64{}
-	for i := 0; i < 300; i++ {
-		q := fmt.Sprintf("s%03d", i)
-		real[q] = 0
-		a, b := below, below
-		if i >= 150 {
-			a = above
-		}
-		if i >= 200 {
-			b = above
-		}
-		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
-			SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
-	}
+	as, real := manySeeds()
 	rep, err := LeaveOneOut(as, real, nil, ModelOptions{}, nil)
 	if err != nil {
 		t.Fatal(err)
@@ -1014,4 +982,29 @@ func TestLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
 	if !found {
 		t.Fatal("no rerun without B")
 	}
+}
+
+// manySeeds is TestManyCalibrationQuestions' invented panel: 300
+// calibration questions, every realisation 0, asked at 1/50/99%; A has
+// 150 realisations below its 1% value and 150 above its 99% value, B 200
+// and 100.
+func manySeeds() ([]SeedAssessment, map[string]float64) {
+	probs := []float64{0.01, 0.5, 0.99}
+	above, below := []float64{-3, -2, -1}, []float64{1, 2, 3}
+	var as []SeedAssessment
+	real := map[string]float64{}
+	for i := 0; i < 300; i++ {
+		q := fmt.Sprintf("s%03d", i)
+		real[q] = 0
+		a, b := below, below
+		if i >= 150 {
+			a = above
+		}
+		if i >= 200 {
+			b = above
+		}
+		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
+			SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
+	}
+	return as, real
 }

@@ -39,15 +39,7 @@ func TestScoresBelowTheDoubleRangeAreWritten(t *testing.T) {
 		as = append(as, elicit.SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
 			elicit.SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
 	}
-	sc, err := elicit.ClassicalModel(as, real, nil, elicit.ModelOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	var experts []workshop.PerformanceExpert
-	for i, e := range sc.Experts {
-		experts = append(experts, workshop.PerformanceExpert{ExpertID: int64(i + 1), Name: e.Expert, Answered: e.N,
-			Calibration: e.Calibration, LogCalibration: e.LogCalibration, Information: e.Information, Combined: e.Combined, Weight: e.Weight})
-	}
+	sc, experts := scoredPanel(t, as, real)
 	var b bytes.Buffer
 	if err := scoresTable("t", experts, sc.Pooled, sc.Alpha, sc.LogAlpha).Render(context.Background(), &b); err != nil {
 		t.Fatal(err)
@@ -110,15 +102,7 @@ func TestWeightTooSmallToHoldIsSaidSo(t *testing.T) {
 		as = append(as, elicit.SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: a},
 			elicit.SeedAssessment{Expert: "B", Question: q, Probs: probs, Quantiles: b})
 	}
-	sc, err := elicit.ClassicalModel(as, real, nil, elicit.ModelOptions{})
-	if err != nil {
-		t.Fatal(err)
-	}
-	var experts []workshop.PerformanceExpert
-	for i, e := range sc.Experts {
-		experts = append(experts, workshop.PerformanceExpert{ExpertID: int64(i + 1), Name: e.Expert, Answered: e.N,
-			Calibration: e.Calibration, LogCalibration: e.LogCalibration, Information: e.Information, Combined: e.Combined, Weight: e.Weight})
-	}
+	sc, experts := scoredPanel(t, as, real)
 	if sc.LogAlpha == nil || experts[1].Weight != 0 || experts[1].Calibration != 0 {
 		t.Fatalf("the scenario: cut-off %v (log %v), B's weight %v and score %v", sc.Alpha, sc.LogAlpha, experts[1].Weight, experts[1].Calibration)
 	}
@@ -164,4 +148,20 @@ func TestRerunCutOffBelowTheDoubleRangeIsWritten(t *testing.T) {
 	if len(s.Rows) != 1 || s.Rows[0].Alpha != "7.878e-509" {
 		t.Errorf("rerun rows %+v, want the cut-off 7.878e-509", s.Rows)
 	}
+}
+
+// scoredPanel scores the invented panel by Cooke's classical model with
+// an optimised cut-off and gives its experts as the page lists them.
+func scoredPanel(t *testing.T, as []elicit.SeedAssessment, real map[string]float64) (elicit.Scores, []workshop.PerformanceExpert) {
+	t.Helper()
+	sc, err := elicit.ClassicalModel(as, real, nil, elicit.ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	var experts []workshop.PerformanceExpert
+	for i, e := range sc.Experts {
+		experts = append(experts, workshop.PerformanceExpert{ExpertID: int64(i + 1), Name: e.Expert, Answered: e.N,
+			Calibration: e.Calibration, LogCalibration: e.LogCalibration, Information: e.Information, Combined: e.Combined, Weight: e.Weight})
+	}
+	return sc, experts
 }

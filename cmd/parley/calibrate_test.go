@@ -635,22 +635,7 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 // = 3.31816). The command refused the panel ("every calibration score is
 // 0"); it now scores it, A above B, and writes the scores, not 0.
 func TestCalibrateScoresBelowTheDoubleRange(t *testing.T) {
-	var b strings.Builder
-	b.WriteString("expert,question,realization,q01,q50,q99\n")
-	for i := 0; i < 300; i++ {
-		a, bq := "1,2,3", "1,2,3"
-		if i >= 150 {
-			a = "-3,-2,-1"
-		}
-		if i >= 200 {
-			bq = "-3,-2,-1"
-		}
-		fmt.Fprintf(&b, "A,s%03d,0,%s\nB,s%03d,0,%s\n", i, a, i, bq)
-	}
-	path := filepath.Join(t.TempDir(), "many.csv")
-	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
-		t.Fatal(err)
-	}
+	path := manySeedsCSV(t)
 	code, out, errOut := runCLI(t, "", "calibrate", "--input", path, "--alpha", "0")
 	if code != 0 {
 		t.Fatalf("exit %d: %s", code, errOut)
@@ -679,6 +664,24 @@ func TestCalibrateScoresBelowTheDoubleRange(t *testing.T) {
 // leaves A alone, its cut-off A's score e^−1169.95 = 7.878e-509 (R 4.2.2's
 // pchisq(…, log.p = TRUE)); the leave-one-out table wrote it as 0.
 func TestCalibrateLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
+	path := manySeedsCSV(t)
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", path, "--leave-one-out")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	re := regexp.MustCompile(`(?m)^expert +B +(\S+)`)
+	m := re.FindStringSubmatch(out)
+	if m == nil || m[1] != "7.878e-509" {
+		t.Errorf("the rerun without B: cut-off %v, want 7.878e-509:\n%s", m, out)
+	}
+}
+
+// manySeedsCSV writes TestCalibrateScoresBelowTheDoubleRange's panel of
+// 300 invented calibration questions (every realisation 0, asked at
+// 1/50/99%; A has 150 realisations below its 1% value and 150 above its
+// 99% value, B 200 and 100) and returns its path.
+func manySeedsCSV(t *testing.T) string {
+	t.Helper()
 	var b strings.Builder
 	b.WriteString("expert,question,realization,q01,q50,q99\n")
 	for i := 0; i < 300; i++ {
@@ -695,13 +698,5 @@ func TestCalibrateLeaveOneOutCutOffBelowTheDoubleRange(t *testing.T) {
 	if err := os.WriteFile(path, []byte(b.String()), 0o600); err != nil {
 		t.Fatal(err)
 	}
-	code, out, errOut := runCLI(t, "", "calibrate", "--input", path, "--leave-one-out")
-	if code != 0 {
-		t.Fatalf("exit %d: %s", code, errOut)
-	}
-	re := regexp.MustCompile(`(?m)^expert +B +(\S+)`)
-	m := re.FindStringSubmatch(out)
-	if m == nil || m[1] != "7.878e-509" {
-		t.Errorf("the rerun without B: cut-off %v, want 7.878e-509:\n%s", m, out)
-	}
+	return path
 }
