@@ -276,15 +276,7 @@ func TestStudyPlanMatchesTheCommandLineAndSciPy(t *testing.T) {
 // Through HTTP, the page shows the plan's numbers under the agreed prior.
 func TestStudyPlanPage(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
-	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 2, Trials: 40, Upper: 1}
-	c, err := elicit.Construct(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
-		Dist: c.Dist, Construction: &in, Rationale: "about 2 in 40 (invented)", RoundOpen: true}); err != nil {
-		t.Fatal(err)
-	}
+	agreeSample(t, h, qs[0].ID, 2, 40, "about 2 in 40 (invented)")
 	sp := studyPath(ws.ID, qs[0].ID)
 	_, body := h.get(sp)
 	// The agreed prior is the last choice and the default.
@@ -709,22 +701,14 @@ func TestStudySaysWhenThePriorAloneMeetsTheGoal(t *testing.T) {
 		successes, trials float64
 		alone             bool
 	}{{460, 15360, true}, {2, 40, false}} {
-		in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: c.successes, Trials: c.trials, Upper: 1}
-		made, err := elicit.Construct(in)
-		if err != nil {
-			t.Fatal(err)
-		}
-		if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
-			Dist: made.Dist, Construction: &in, Rationale: "invented", RoundOpen: true}); err != nil {
-			t.Fatal(err)
-		}
+		agreeSample(t, h, qs[0].ID, c.successes, c.trials, "invented")
 		res, body := h.get(sp + "?trials=200&length=0.04&level=0.95&criterion=alc&interval=equal")
 		if res.StatusCode != http.StatusOK {
-			t.Fatalf("%v: status %d", made.Dist, res.StatusCode)
+			t.Fatalf("%v in %v: status %d", c.successes, c.trials, res.StatusCode)
 		}
 		said := strings.Contains(body, "The prior alone, before any trial, already meets this goal (expected width with no data: 0.00539)")
 		if said != c.alone {
-			t.Errorf("%v: says the prior alone meets the goal: %v, want %v", made.Dist, said, c.alone)
+			t.Errorf("%v in %v: says the prior alone meets the goal: %v, want %v", c.successes, c.trials, said, c.alone)
 		}
 	}
 }
@@ -752,15 +736,7 @@ func TestStudyAssurancePairNamesItsPartner(t *testing.T) {
 // label now stands in brackets after the words.
 func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
-	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 2, Trials: 40, Upper: 1}
-	made, err := elicit.Construct(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qs[0].ID, Source: workshop.PriorFromConstruction,
-		Dist: made.Dist, Construction: &in, Rationale: "invented", RoundOpen: true}); err != nil {
-		t.Fatal(err)
-	}
+	agreeSample(t, h, qs[0].ID, 2, 40, "invented")
 	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=100")
 	if !strings.Contains(body, "the median of the predictive under the prior the study is planned under (Agreed prior).") || strings.Contains(body, "under Agreed prior (") {
 		t.Error("the typical outcome's sentence does not name its prior in brackets")
@@ -949,5 +925,21 @@ func TestStudyPlanLevelStaysAsTyped(t *testing.T) {
 	res, body = h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim=")
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
 		t.Errorf("the length cleared: %d", res.StatusCode)
+	}
+}
+
+// agreeSample agrees, on question qid, the prior worth an invented
+// sample of successes in trials (Beta(s, n − s)), as the quick priors
+// page records it, while the round is open.
+func agreeSample(t *testing.T, h *harness, qid int64, successes, trials float64, rationale string) {
+	t.Helper()
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: successes, Trials: trials, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: qid, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: rationale, RoundOpen: true}); err != nil {
+		t.Fatal(err)
 	}
 }
