@@ -152,7 +152,7 @@ func Construct(in ConstructionInput) (Construction, error) {
 		return Construction{}, err
 	}
 	dist := ScaledBeta{Beta: d, Lower: in.Lower, Upper: in.Upper}
-	c := Construction{Input: in, Dist: dist, Warnings: constructionWarnings(d, dist.OnUnit())}
+	c := Construction{Input: in, Dist: dist, Warnings: constructionWarnings(dist)}
 	if in.Method.IsInterval() {
 		c.BelowLow = d.CDF(unit(in.Low))
 		c.AboveHigh = d.Survival(unit(in.High))
@@ -225,15 +225,16 @@ func (c Construction) Describe() string {
 // construction's, which are a fit's shape and certainty rules): U- or
 // J-shaped, or worth more than NearCertaintyESS trials. The report gives
 // them beside each agreed prior.
-func PriorWarnings(d ScaledBeta) []Warning { return constructionWarnings(d.Beta, d.OnUnit()) }
+func PriorWarnings(d ScaledBeta) []Warning { return constructionWarnings(d) }
 
 // constructionWarnings flags a constructed Beta that is U-shaped (α and β
 // below 1), J-shaped (one of them below 1) or worth more than
 // NearCertaintyESS trials, as a fit's warnings do, in words for whoever
-// set the prior; proportion says the bounds are [0, 1] (weightWords).
-func constructionWarnings(d Beta, proportion bool) []Warning {
+// set the prior, and one whose 5%, 50% or 95% point is shown as a bound
+// (WarnBeyondDouble); on [0, 1] α + β reads as trials (weightWords).
+func constructionWarnings(d ScaledBeta) []Warning {
 	w := []Warning{}
-	a, b := d.Alpha, d.Beta
+	a, b := d.Alpha, d.Beta.Beta
 	switch {
 	case shapeBelowOne(a) && shapeBelowOne(b):
 		w = append(w, Warning{WarnUShaped, fmt.Sprintf(
@@ -246,48 +247,73 @@ func constructionWarnings(d Beta, proportion bool) []Warning {
 			"This prior is J-shaped (β = %s is below 1): its density rises without limit towards the upper bound.", ShapeText(b))})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
-		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, proportion) + ": it implies near-certainty. Check that this much certainty is meant."})
+		w = append(w, Warning{WarnNearCertainty, "This prior " + weightWords(ess, d.OnUnit()) + ": it implies near-certainty. Check that this much certainty is meant."})
 	}
-	if m, ok := beyondDouble(d, proportion); ok {
+	var shown []ShownPoint
+	for _, p := range [3]float64{0.05, 0.5, 0.95} {
+		shown = append(shown, ShownPoint{P: p, X: d.Quantile(p)})
+	}
+	if m, ok := beyondDouble(d, shown, "the "); ok {
 		w = append(w, Warning{WarnBeyondDouble, m})
 	}
 	return w
 }
 
-// beyondDouble says which of the 5%, 50% and 95% points lie nearer a
-// bound than a double holds, with their values: for Beta(2e-4, 2e-4) the
-// 5% point is about 1.0e-5000, which a double holds only as 0 (and the 95%
-// point 1 − 1.0e-5000, which it holds as 1). Nothing shown may be a 0 that
-// is not the value without saying so. Only a shape below 1 can put a
-// point there.
-func beyondDouble(d Beta, proportion bool) (string, bool) {
-	if !shapeBelowOne(d.Alpha) && !shapeBelowOne(d.Beta) {
+// ShownPoint is a p-quantile of a Beta as it is shown: X is the double
+// the pages and commands write for the point at probability P.
+type ShownPoint struct{ P, X float64 }
+
+// BoundsShown says whether any of the points is shown as d's lower bound
+// and whether any is shown as its upper bound: a point strictly inside
+// the range whose double is the bound itself (WarnBeyondDouble).
+func BoundsShown(d ScaledBeta, shown []ShownPoint) (lower, upper bool) {
+	for _, s := range shown {
+		if s.P > 0 && s.P < 1 {
+			lower = lower || s.X == d.Lower
+			upper = upper || s.X == d.Upper
+		}
+	}
+	return lower, upper
+}
+
+// beyondDouble says which of the shown points lie nearer a bound than
+// a double holds beside that bound, so that the double is the bound
+// itself, and how far from the bound each really lies. On [0, 1] only a
+// point below the smallest normal double, or within 2⁻⁵³ of 1, is held
+// as the bound: for Beta(2e-4, 2e-4) the 5% point is about 1.0e-5000,
+// which a double holds only as 0, and the 95% point 1 − 1.0e-5000, held
+// as 1. On other bounds the bound's own size sets how near is too near:
+// on [10, 20] a 5% point 5e-18 above 10 is held as 10. Nothing shown may
+// be a bound that is not the value without saying so. subject starts
+// each point's name ("the ", "the fitted ").
+func beyondDouble(d ScaledBeta, shown []ShownPoint, subject string) (string, bool) {
+	if d.Beta.Validate() != nil {
 		return "", false
 	}
+	w := d.width()
+	mirror := Beta{Alpha: d.Beta.Beta, Beta: d.Alpha}
+	seen := map[float64]bool{}
 	var items []string
-	for _, p := range []float64{0.05, 0.5, 0.95} {
-		name := percentOf(p) + "% point"
-		if x := d.Quantile(p); x < minNormal {
-			v := FormatExp(logTinyQuantile(d, p), 2)
-			if proportion {
-				items = append(items, "the "+name+" is about "+v)
+	for _, s := range shown {
+		if seen[s.P] || !(s.P > 0 && s.P < 1) || (s.X != d.Lower && s.X != d.Upper) {
+			continue
+		}
+		seen[s.P] = true
+		name := subject + percentOf(s.P) + "% point"
+		if s.X == d.Lower {
+			v := FormatExp(math.Log(w)+logUnitQuantile(d.Beta, s.P), 2)
+			if d.Lower == 0 {
+				items = append(items, name+" is about "+v)
 			} else {
-				items = append(items, "the "+name+" lies about "+v+" of the range above the lower bound")
+				items = append(items, name+" lies about "+v+" above the lower bound, "+strconv.FormatFloat(d.Lower, 'g', -1, 64))
 			}
 			continue
 		}
-		mirror := Beta{Alpha: d.Beta, Beta: d.Alpha}
-		if y := mirror.Quantile(1 - p); y < 0x1p-53 {
-			ly := math.Log(y)
-			if y < minNormal {
-				ly = logTinyQuantile(mirror, 1-p)
-			}
-			v := FormatExp(ly, 2)
-			if proportion {
-				items = append(items, "the "+name+" is about 1 − "+v)
-			} else {
-				items = append(items, "the "+name+" lies about "+v+" of the range below the upper bound")
-			}
+		v := FormatExp(math.Log(w)+logUnitQuantile(mirror, 1-s.P), 2)
+		if d.OnUnit() {
+			items = append(items, name+" is about 1 − "+v)
+		} else {
+			items = append(items, name+" lies about "+v+" below the upper bound, "+strconv.FormatFloat(d.Upper, 'g', -1, 64))
 		}
 	}
 	if len(items) == 0 {
@@ -299,6 +325,15 @@ func beyondDouble(d Beta, proportion bool) (string, bool) {
 	}
 	s := strings.Join(items, ", and ")
 	return strings.ToUpper(s[:1]) + s[1:] + ": nearer the bound than the computer's numbers (double precision) can hold, so " + how + ".", true
+}
+
+// logUnitQuantile is ln x of d's p-quantile x, from the leading term at 0
+// (logTinyQuantile) where x is below the smallest normal double.
+func logUnitQuantile(d Beta, p float64) float64 {
+	if x := d.Quantile(p); x >= minNormal {
+		return math.Log(x)
+	}
+	return logTinyQuantile(d, p)
 }
 
 // logTinyQuantile is ln x of d's p-quantile x where x is below the

@@ -62,7 +62,9 @@ func TestPercentilesBeyondDoubleAreSaid(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if m := warningMessage(scaled.Warnings, WarnBeyondDouble); !strings.Contains(m, "of the range above the lower bound") {
+	// On [0, 100] each point lies 100 times further from its bound.
+	if m := warningMessage(scaled.Warnings, WarnBeyondDouble); !strings.Contains(m, "5% point is about 3.2e-4997") ||
+		!strings.Contains(m, "95% point lies about 3.2e-4997 below the upper bound, 100") {
 		t.Errorf("scaled: warning %q", m)
 	}
 	plain, err := Construct(ConstructionInput{Method: MethodMeanSD, Mean: 0.5, SD: 0.45, Upper: 1})
@@ -81,4 +83,78 @@ func warningMessage(ws []Warning, code WarningCode) string {
 		}
 	}
 	return ""
+}
+
+// TestPointsHeldAsABoundAreSaid: on bounds other than [0, 1] the bound's
+// own size sets how near a point may lie before its double is the bound.
+// Beta(0.0668198, 0.292528) puts its 5% point 10·qbeta(0.05, 0.0668198,
+// 0.292528) = 5.0098e-18 above its lower bound (R 4.2.2): on [10, 20] the
+// point 10 + 5.0e-18 is held as 10, and the warning says so; on [0, 10]
+// the same point, 5.0e-18, is held as itself, and nothing is said. The
+// mirror image, Beta(0.292528, 0.0668198) on [10, 20], holds its 95%
+// point as 20.
+func TestPointsHeldAsABoundAreSaid(t *testing.T) {
+	a, b := 0.0668198, 0.292528
+	low := ScaledBeta{Beta: Beta{Alpha: a, Beta: b}, Lower: 10, Upper: 20}
+	if low.Quantile(0.05) != 10 {
+		t.Fatalf("5%% point %v: the case is no longer held as the bound", low.Quantile(0.05))
+	}
+	if m := warningMessage(PriorWarnings(low), WarnBeyondDouble); !strings.Contains(m, "The 5% point lies about 5.0e-18 above the lower bound, 10:") ||
+		!strings.Contains(m, "shown as the bound itself") {
+		t.Errorf("[10, 20]: warning %q", m)
+	}
+	held := ScaledBeta{Beta: Beta{Alpha: a, Beta: b}, Lower: 0, Upper: 10}
+	if m := warningMessage(PriorWarnings(held), WarnBeyondDouble); m != "" {
+		t.Errorf("[0, 10] holds the 5%% point (%v) but warns %q", held.Quantile(0.05), m)
+	}
+	high := ScaledBeta{Beta: Beta{Alpha: b, Beta: a}, Lower: 10, Upper: 20}
+	if m := warningMessage(PriorWarnings(high), WarnBeyondDouble); !strings.Contains(m, "The 95% point lies about 5.0e-18 below the upper bound, 20:") {
+		t.Errorf("mirror on [10, 20]: warning %q", m)
+	}
+}
+
+// TestFitPointsBeyondDoubleAreSaid: a fit's percentiles and fitted values
+// are what pages and commands write, so a fit whose point is held as a
+// bound says so as a prior does. 0.4, 0.5 and 0.6 at 1e-10, 1.0001e-10
+// and 0.9999999999 fit Beta(0.0067230, 0.0074396), whose 95% point lies
+// qbeta(0.05, 0.00743956, 0.00672296) = 4.07e-132 below 1 (R 4.2.2): held
+// as 1. On [10, 20], 0.4, 0.5 and 0.9 at 10.00001, 10.1 and 16 fit
+// Beta(0.0668198, 0.292528), whose 5% point lies 5.0e-18 above 10
+// (TestPointsHeldAsABoundAreSaid): held as 10.
+func TestFitPointsBeyondDoubleAreSaid(t *testing.T) {
+	f, err := FitQuantiles(Judgement{Probs: []float64{0.4, 0.5, 0.6}, Values: []float64{1e-10, 1.0001e-10, 0.9999999999}, Lower: 0, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(f.Dist.Alpha/0.00672296-1) > 1e-5 || math.Abs(f.Dist.Beta.Beta/0.00743956-1) > 1e-5 {
+		t.Fatalf("fit %v: the case has moved", f.Dist)
+	}
+	if f.Percentiles[2] != 1 {
+		t.Fatalf("95%% point %v: no longer held as 1", f.Percentiles[2])
+	}
+	m := warningMessage(f.Warnings, WarnBeyondDouble)
+	if !strings.Contains(m, "The fitted 95% point is about 1 − 4.1e-132:") || strings.Contains(m, "fitted 5% point") {
+		t.Errorf("[0, 1]: warning %q", m)
+	}
+	f, err = FitQuantiles(Judgement{Probs: []float64{0.4, 0.5, 0.9}, Values: []float64{10.00001, 10.1, 16}, Lower: 10, Upper: 20})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(f.Dist.Alpha/0.0668198-1) > 1e-5 || math.Abs(f.Dist.Beta.Beta/0.292528-1) > 1e-5 || f.Percentiles[0] != 10 {
+		t.Fatalf("fit %v, 5%% point %v: the case has moved", f.Dist, f.Percentiles[0])
+	}
+	if m := warningMessage(f.Warnings, WarnBeyondDouble); !strings.Contains(m, "The fitted 5% point lies about 5.0e-18 above the lower bound, 10:") {
+		t.Errorf("[10, 20]: warning %q", m)
+	}
+	if lo, hi := BoundsShown(f.Dist, f.Shown()); !lo || hi {
+		t.Errorf("BoundsShown says lower %v, upper %v; want the lower bound only", lo, hi)
+	}
+	// An ordinary fit says nothing of the kind.
+	f, err = FitQuantiles(Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.02, 0.05, 0.12}, Lower: 0, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if m := warningMessage(f.Warnings, WarnBeyondDouble); m != "" {
+		t.Errorf("an ordinary fit warns %q", m)
+	}
 }

@@ -65,9 +65,11 @@ const (
 	WarnTailMisfit WarningCode = "tail_misfit"
 	// WarnNearCertainty: α+β exceeds NearCertaintyESS.
 	WarnNearCertainty WarningCode = "near_certainty"
-	// WarnBeyondDouble: a prior's 5%, 50% or 95% point lies nearer a
-	// bound than a double can hold (shapes far below 1), so that it
-	// shows as the bound; the warning gives its value.
+	// WarnBeyondDouble: a point a prior or a fit shows (a prior's 5%,
+	// 50% or 95% point; a fit's percentiles and fitted values) lies
+	// nearer a bound than a double beside that bound can hold (shapes
+	// far below 1), so that it shows as the bound; the warning gives how
+	// far from the bound it really lies.
 	WarnBeyondDouble WarningCode = "beyond_double"
 )
 
@@ -172,7 +174,27 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		}
 	}
 	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.OnUnit())
+	if m, ok := beyondDouble(d, f.Shown(), "the fitted "); ok {
+		f.Warnings = append(f.Warnings, Warning{WarnBeyondDouble, m})
+	}
 	return f
+}
+
+// Shown is every point of the fit that pages and commands write, in
+// order of probability: the fitted value at each stated probability and
+// the 5th, 50th and 95th percentiles.
+func (f Fit) Shown() []ShownPoint {
+	out := make([]ShownPoint, 0, len(f.Probs)+3)
+	for i, p := range f.Probs {
+		if i < len(f.Fitted) {
+			out = append(out, ShownPoint{P: p, X: f.Fitted[i]})
+		}
+	}
+	for k, p := range [3]float64{0.05, 0.5, 0.95} {
+		out = append(out, ShownPoint{P: p, X: f.Percentiles[k]})
+	}
+	sort.SliceStable(out, func(i, j int) bool { return out[i].P < out[j].P })
+	return out
 }
 
 // fittedQuantileAccept is the Halley step (relative) that a fitted value

@@ -300,11 +300,33 @@ func readAsLine(q workshop.Question, values []float64) string {
 	return "Read as " + strings.Join(parts[:last], ", ") + " and " + parts[last] + "."
 }
 
+// boundsShownWords tell the expert that a number above, written as a
+// bound (0, 100%, the question's own limits), is really a hair inside it
+// (elicit.WarnBeyondDouble), without the double's arithmetic that the
+// facilitator's message gives.
+func boundsShownWords(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) string {
+	lo, hi := elicit.BoundsShown(fit.Dist, fit.Shown())
+	numbers := sp.pick("your numbers", "%s's numbers")
+	var s string
+	switch {
+	case lo && hi:
+		l, u := typedBack(q, q.Lower, percent), typedBack(q, q.Upper, percent)
+		s = "Parts of the curve that fits " + numbers + " lie so close to " + l + " and to " + u + " that the numbers above write them as " + l + " and " + u + ", though they lie a hair inside."
+	case hi:
+		u := typedBack(q, q.Upper, percent)
+		s = "Part of the curve that fits " + numbers + " lies so close to " + u + " that the numbers above write it as " + u + ", though it lies a hair below."
+	default:
+		l := typedBack(q, q.Lower, percent)
+		s = "Part of the curve that fits " + numbers + " lies so close to " + l + " that the numbers above write it as " + l + ", though it lies a hair above."
+	}
+	return s + " A curve pressed this hard against the edge usually means " + sp.pick("your values need", "the values need") + " another look."
+}
+
 // expertWarnings are a fit's warnings in words for the expert, or, on the
 // facilitator's page for entering on an expert's behalf, about the expert
 // by name (sp); the facilitator's panel keeps elicit's own, written for
 // them.
-func expertWarnings(q workshop.Question, fit elicit.Fit, sp speaker) []string {
+func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) []string {
 	var out []string
 	numbers := sp.pick("your numbers", "%s's numbers")
 	for _, w := range fit.Warnings {
@@ -330,6 +352,8 @@ func expertWarnings(q workshop.Question, fit elicit.Fit, sp speaker) []string {
 		case elicit.WarnNearCertainty:
 			out = append(out, sp.pick("Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.",
 				"%s's values are very close together: they say they are nearly certain of the value. If they are less sure than that, widen them."))
+		case elicit.WarnBeyondDouble:
+			out = append(out, boundsShownWords(q, fit, percent, sp))
 		default:
 			out = append(out, "Please check the curve against "+numbers+".")
 		}

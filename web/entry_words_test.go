@@ -90,12 +90,12 @@ func TestEntryWarningsNameTheExpert(t *testing.T) {
 		Dist:  elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 0.5, Beta: 3}, Lower: 0, Upper: 1},
 		Probs: []float64{0.3, 0.5, 0.7}, // 40% sure of the interval
 		Warnings: []elicit.Warning{{Code: elicit.WarnUShaped}, {Code: elicit.WarnJShaped}, {Code: elicit.WarnPoorFit},
-			{Code: elicit.WarnTailMisfit}, {Code: elicit.WarnNearCertainty}, {Code: "some_later_code"}},
+			{Code: elicit.WarnTailMisfit}, {Code: elicit.WarnNearCertainty}, {Code: elicit.WarnBeyondDouble}, {Code: "some_later_code"}},
 	}
-	own := expertWarnings(q, fit, speaker{})
-	named := expertWarnings(q, fit, speaker{Name: "Carmen Ruiz"})
-	if len(own) != 7 || len(named) != 7 {
-		t.Fatalf("%d and %d warnings, want 7 each", len(own), len(named))
+	own := expertWarnings(q, fit, false, speaker{})
+	named := expertWarnings(q, fit, false, speaker{Name: "Carmen Ruiz"})
+	if len(own) != 8 || len(named) != 8 {
+		t.Fatalf("%d and %d warnings, want 8 each", len(own), len(named))
 	}
 	for i := range own {
 		if !youWords.MatchString(own[i]) || strings.Contains(own[i], "Carmen Ruiz") {

@@ -849,7 +849,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted curve puts the middle 90%% of the chance between %s and %s, with median %s. "+
 		"It is %s, a Beta distribution: α and β are the two numbers that set its shape.",
 		typedBack(q, fit.Percentiles[0], percent), typedBack(q, fit.Percentiles[2], percent), typedBack(q, fit.Percentiles[1], percent), p.Params))
-	p.Warnings = expertWarnings(q, fit, sp)
+	p.Warnings = expertWarnings(q, fit, percent, sp)
 	return p
 }
 

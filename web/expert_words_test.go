@@ -448,3 +448,27 @@ func TestReasonLineBreaksCountAsOne(t *testing.T) {
 		t.Error("a refused reason was saved")
 	}
 }
+
+// TestPointWrittenAsABoundIsSaid: 0.4, 0.5 and 0.9 at 10.00001, 10.1 and
+// 16 days on [10, 20] fit a curve whose 5% point lies 5.0e-18 above 10
+// (elicit.TestFitPointsBeyondDoubleAreSaid, R 4.2.2's qbeta), which the
+// preview can only write as 10. The expert is told so in their own words,
+// without the arithmetic of doubles.
+func TestPointWrittenAsABoundIsSaid(t *testing.T) {
+	g := newExpertRig(t)
+	q := workshop.Question{WorkshopID: g.ws.ID, Wording: "How many days does a gasket swap take?",
+		Quantity: "Swap time", Units: "days", Lower: 10, Upper: 20, Format: workshop.FormatQuantiles, Probs: []float64{0.4, 0.5, 0.9}}
+	if err := g.db.AddQuestion(context.Background(), &q); err != nil {
+		t.Fatal(err)
+	}
+	_, frag := g.post(g.qpath(0, q)+"/preview?fragment=1", quantiles("10.00001", "10.1", "16"))
+	want := "Part of the curve that fits your numbers lies so close to 10 that the numbers above write it as 10, though it lies a hair above. A curve pressed this hard against the edge usually means your values need another look."
+	if !strings.Contains(frag, want) {
+		t.Errorf("the preview does not say that 10 is written for a point above it:\n%s", frag)
+	}
+	for _, bad := range []string{"double", "e-18"} {
+		if strings.Contains(frag, bad) {
+			t.Errorf("the expert's preview says %q:\n%s", bad, frag)
+		}
+	}
+}

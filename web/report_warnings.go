@@ -34,7 +34,7 @@ type warningItem struct {
 
 // warningOrder is the order the report gives the kinds of warning: the
 // fit itself first, then its shape, then its weight.
-var warningOrder = []elicit.WarningCode{elicit.WarnPoorFit, elicit.WarnTailMisfit, elicit.WarnUShaped, elicit.WarnJShaped, elicit.WarnNearCertainty}
+var warningOrder = []elicit.WarningCode{elicit.WarnPoorFit, elicit.WarnTailMisfit, elicit.WarnUShaped, elicit.WarnJShaped, elicit.WarnNearCertainty, elicit.WarnBeyondDouble}
 
 // fitWarningGroups groups the warnings of q's current fits by kind, in
 // warningOrder; a kind this version does not know (from an older record)
@@ -159,6 +159,8 @@ func warningWords(code elicit.WarningCode, n, of int, proportion bool) (title, l
 			weight = "it is worth more than " + limit + " observed trials (α + β above " + limit + ")"
 		}
 		return "Near-certainty" + count, fit + " implies near-certainty about the value: " + weight + ". Check that " + each + " really is this sure."
+	case elicit.WarnBeyondDouble:
+		return "Point written as a bound" + count, "A percentile or fitted value of " + theFit + " lies nearer a bound than the computer's numbers (double precision) can hold beside it, so the report writes it as the bound itself; each line gives how far from the bound it really lies. Such a fit is pressed against the edge: check it with " + each + "."
 	}
 	return "Other warnings (" + string(code) + ")" + count, ""
 }

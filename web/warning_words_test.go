@@ -121,3 +121,32 @@ func checkWarningWords(t *testing.T, page, body, want string, proportion bool) {
 		t.Errorf("%s speaks of observed trials on a question that is not a proportion", page)
 	}
 }
+
+// A fit whose 5% point lies 5.0e-18 above a bound of 10 is written "10"
+// (elicit.TestFitPointsBeyondDoubleAreSaid, R 4.2.2's qbeta): the
+// facilitator's panel gives elicit's warning with the distance, and the
+// report groups it under its own title with each expert's particulars.
+func TestPointWrittenAsABoundOnThePanelAndReport(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	ctx := context.Background()
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "How many days does a gasket swap take? (invented)",
+		Quantity: "Swap time", Units: "days", Lower: 10, Upper: 20, Format: workshop.FormatQuantiles, Probs: []float64{0.4, 0.5, 0.9}}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	rv := workshop.Revision{QuestionID: q.ID, ExpertID: es[0].ID, Answer: workshop.Answer{Values: []float64{10.00001, 10.1, 16}}}
+	if err := h.db.SaveRevision(ctx, &rv); err != nil {
+		t.Fatal(err)
+	}
+	want := "The fitted 5% point lies about 5.0e-18 above the lower bound, 10: nearer the bound than the computer"
+	if _, body := h.get(questionPath(ws.ID, q.ID)); !strings.Contains(body, want) {
+		t.Errorf("the panel lacks %q", want)
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	sec := reportSection(t, report, q.ID)
+	for _, w := range []string{"Point written as a bound", "so the report writes it as the bound itself", es[0].Name, want} {
+		if !strings.Contains(sec, w) {
+			t.Errorf("the report's section lacks %q:\n%s", w, sec)
+		}
+	}
+}

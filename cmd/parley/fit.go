@@ -113,7 +113,7 @@ func writeFitText(w io.Writer, o fitOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
 	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
-	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s\n", in(o.Mean), o.SD, in(o.Percentiles.P05), in(o.Percentiles.P50), in(o.Percentiles.P95))
+	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s%s\n", in(o.Mean), o.SD, in(o.Percentiles.P05), in(o.Percentiles.P50), in(o.Percentiles.P95), beyondNote(o.WarningCodes))
 	fmt.Fprintf(&b, "%-12s %-12s %-12s %s\n", "probability", "stated", "fitted", "F(stated)-p")
 	for i, p := range o.Probs {
 		fmt.Fprintf(&b, "%-12g %-12s %-12s %+.2e\n", p, in(o.Values[i]), in(o.Fitted[i]), o.ProbErrors[i])

@@ -248,16 +248,22 @@ func intervalFlag(err error) error {
 	return &elicit.InputError{Field: field, Rule: ie.Rule, Detail: ie.Detail}
 }
 
+// beyondNote follows a line of points when a warning says one of them
+// is shown as its bound (elicit.WarnBeyondDouble), so that a 0 or a 1
+// that is not the value is never read without a word.
+func beyondNote(codes []string) string {
+	if slices.Contains(codes, string(elicit.WarnBeyondDouble)) {
+		return " (a point nearer its bound than a double holds is shown as the bound: see the warning below)"
+	}
+	return ""
+}
+
 func writePriorText(w io.Writer, o priorOutput) error {
 	var b strings.Builder
 	fmt.Fprintf(&b, "Beta(%s, %s) on [%g, %g]\n", shape(o.Alpha), shape(o.Beta), o.Lower, o.Upper)
 	fmt.Fprintf(&b, "made from: %s\n", o.Description)
 	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
-	beyond := ""
-	if slices.Contains(o.WarningCode, string(elicit.WarnBeyondDouble)) {
-		beyond = " (a point nearer its bound than a double holds is shown as the bound: see the warning below)"
-	}
-	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s%s\n", in(o.Mean), o.SD, in(o.Q05), in(o.Q50), in(o.Q95), beyond)
+	fmt.Fprintf(&b, "mean %s, sd %.6g; 5%% %s, 50%% %s, 95%% %s%s\n", in(o.Mean), o.SD, in(o.Q05), in(o.Q50), in(o.Q95), beyondNote(o.WarningCode))
 	if o.CoverageAchieved != nil {
 		fmt.Fprintf(&b, "the interval [%g, %g] holds %s%% of this prior (asked %s%%): %.4g%% below it, %.4g%% above it\n",
 			o.Input.Low, o.Input.High, elicit.PercentText(*o.CoverageAchieved, 4), input.Typed(o.Input.Coverage, true), 100**o.BelowLow, 100**o.AboveHigh)

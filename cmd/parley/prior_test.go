@@ -291,3 +291,37 @@ func TestPriorPercentilesBeyondDouble(t *testing.T) {
 		t.Errorf("JSON q05 %v, codes %v, warnings %v", got.Q05, got.Codes, got.Warnings)
 	}
 }
+
+// TestFitPercentilesBeyondDouble: `parley fit` on [10, 20] with 0.4, 0.5
+// and 0.9 at 10.00001, 10.1 and 16 fits Beta(0.0668198, 0.292528), whose
+// 5% point lies 10·qbeta(0.05, 0.0668198, 0.292528) = 5.0e-18 above 10
+// (R 4.2.2), which a double beside 10 holds only as 10. It printed "5% 10"
+// without a word; the text and the JSON now say so, with the distance.
+func TestFitPercentilesBeyondDouble(t *testing.T) {
+	args := []string{"fit", "--lower", "10", "--upper", "20", "--probs", "0.4,0.5,0.9", "--values", "10.00001,10.1,16"}
+	code, out, errOut := runCLI(t, "", args...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"5% 10, 50% 10.0046, 95% 19.898 (a point nearer its bound than a double holds is shown as the bound",
+		"The fitted 5% point lies about 5.0e-18 above the lower bound, 10:"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text lacks %q:\n%s", want, out)
+		}
+	}
+	code, out, errOut = runCLI(t, "", append(args, "--format", "json")...)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Percentiles struct {
+			P05 float64 `json:"p05"`
+		} `json:"percentiles"`
+		Codes    []string `json:"warning_codes"`
+		Warnings []string `json:"warnings"`
+	}
+	decodeJSON(t, out, &got)
+	if got.Percentiles.P05 != 10 || !slices.Contains(got.Codes, "beyond_double") || !strings.Contains(strings.Join(got.Warnings, " "), "5.0e-18") {
+		t.Errorf("JSON p05 %v, codes %v, warnings %v", got.Percentiles.P05, got.Codes, got.Warnings)
+	}
+}
