@@ -311,13 +311,13 @@ func boundsShownWords(q workshop.Question, fit elicit.Fit, percent bool, sp spea
 	switch {
 	case lo && hi:
 		l, u := typedBack(q, q.Lower, percent), typedBack(q, q.Upper, percent)
-		s = "Parts of the curve that fits " + numbers + " lie so close to " + l + " and to " + u + " that the numbers above write them as " + l + " and " + u + ", though they lie a hair inside."
+		s = "Parts of the curve that fits " + numbers + " lie so close to " + l + " and to " + u + " that they are written as " + l + " and " + u + " here, though they lie a hair inside."
 	case hi:
 		u := typedBack(q, q.Upper, percent)
-		s = "Part of the curve that fits " + numbers + " lies so close to " + u + " that the numbers above write it as " + u + ", though it lies a hair below."
+		s = "Part of the curve that fits " + numbers + " lies so close to " + u + " that it is written as " + u + " here, though it lies a hair below."
 	default:
 		l := typedBack(q, q.Lower, percent)
-		s = "Part of the curve that fits " + numbers + " lies so close to " + l + " that the numbers above write it as " + l + ", though it lies a hair above."
+		s = "Part of the curve that fits " + numbers + " lies so close to " + l + " that it is written as " + l + " here, though it lies a hair above."
 	}
 	return s + " A curve pressed this hard against the edge usually means " + sp.pick("your values need", "the values need") + " another look."
 }

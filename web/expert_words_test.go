@@ -462,7 +462,7 @@ func TestPointWrittenAsABoundIsSaid(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, frag := g.post(g.qpath(0, q)+"/preview?fragment=1", quantiles("10.00001", "10.1", "16"))
-	want := "Part of the curve that fits your numbers lies so close to 10 that the numbers above write it as 10, though it lies a hair above. A curve pressed this hard against the edge usually means your values need another look."
+	want := "Part of the curve that fits your numbers lies so close to 10 that it is written as 10 here, though it lies a hair above. A curve pressed this hard against the edge usually means your values need another look."
 	if !strings.Contains(frag, want) {
 		t.Errorf("the preview does not say that 10 is written for a point above it:\n%s", frag)
 	}
