@@ -28,6 +28,11 @@ const (
 	// quantiles and realisation: a quantile on the range's edge gives an
 	// infinite information score.
 	RuleRangeCollapsed Rule = "the question's range, widened by the overshoot, must strictly contain every quantile and the realisation"
+	// RuleLogScalePositive: a question scored against the log-uniform
+	// background (ModelOptions.LogScale) has its range built from
+	// logarithms, so its quantiles, its realisation and its upper bound
+	// must be above 0 (a lower bound of 0 leaves the range uncut below).
+	RuleLogScalePositive Rule = "must be above 0 on a question scored on the log scale"
 )
 
 // DefaultOvershoot is the k of the intrinsic range: the range spanned by
@@ -115,6 +120,16 @@ type ModelOptions struct {
 	Alpha *float64
 	// Overshoot is the k of the intrinsic range; 0 means DefaultOvershoot.
 	Overshoot float64
+	// LogScale names the questions whose information is measured
+	// against the log-uniform background instead of the uniform: the
+	// intrinsic range, the minimal-information distributions and the
+	// performance-weighted pool are built on ln x (Cooke 1991, ch. 12,
+	// offers both backgrounds, the log-uniform for quantities spread over
+	// orders of magnitude; from memory). Calibration scores do not
+	// change: a monotone scale keeps each realisation in its
+	// inter-quantile bin. Every value of such a question must be above 0
+	// (RuleLogScalePositive).
+	LogScale map[string]bool
 }
 
 // ExpertScore is one expert's performance on the calibration questions.
@@ -149,6 +164,10 @@ type SeedResult struct {
 	Lower       float64   `json:"lower"` // L*, the intrinsic range's lower end
 	Upper       float64   `json:"upper"` // U*
 	Pooled      []float64 `json:"pooled"`
+	// LogScale says the question was scored against the log-uniform
+	// background: Lower and Upper are then exp of the range's ends on
+	// ln x, and the pool is uniform on ln x between its knots.
+	LogScale bool `json:"log_scale,omitempty"`
 }
 
 // Scores is the outcome of the classical model. Experts and Questions are
@@ -212,7 +231,7 @@ func (s Scores) Weights() map[string]float64 {
 // (expert, question) pair may appear once. The result does not depend on
 // the order of assessments: experts and questions are sorted by name.
 func ClassicalModel(assessments []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, opt ModelOptions) (Scores, error) {
-	set, err := newSeedSet(assessments, realisations, bounds, opt.Overshoot)
+	set, err := newSeedSet(assessments, realisations, bounds, opt.Overshoot, opt.LogScale)
 	if err != nil {
 		return Scores{}, err
 	}
@@ -239,6 +258,7 @@ type seedSet struct {
 
 type seedQuestion struct {
 	name        string
+	log         bool // on ln x (ModelOptions.LogScale): every value below is ln of the stated one
 	realisation float64
 	lo, hi      float64 // intrinsic range [L*, U*]
 	answers     []seedAnswer
@@ -251,7 +271,7 @@ type seedAnswer struct {
 	q      []float64
 }
 
-func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, k float64) (*seedSet, error) {
+func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, k float64, logScale map[string]bool) (*seedSet, error) {
 	if math.IsNaN(k) || math.IsInf(k, 0) {
 		return nil, inputErr("overshoot", RuleFinite, "got %v", k)
 	}
@@ -305,7 +325,7 @@ func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map
 	}
 	sort.Strings(names)
 	for _, name := range names {
-		q, err := newSeedQuestion(name, as, byQuestion[name], index, realisations, bounds, k)
+		q, err := newSeedQuestion(name, as, byQuestion[name], index, realisations, bounds, k, logScale[name])
 		if err != nil {
 			return nil, err
 		}
@@ -315,7 +335,7 @@ func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map
 	return s, nil
 }
 
-func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[string]int, realisations map[string]float64, bounds map[string][2]float64, k float64) (seedQuestion, error) {
+func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[string]int, realisations map[string]float64, bounds map[string][2]float64, k float64, logScale bool) (seedQuestion, error) {
 	x, ok := realisations[name]
 	field := "realisations[" + strconv.Quote(name) + "]"
 	if !ok {
@@ -327,9 +347,20 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 	if math.Abs(x) > maxBound {
 		return seedQuestion{}, inputErr(field, RuleBoundsRange, "got %v", x)
 	}
-	q := seedQuestion{name: name, realisation: x}
-	lo, hi := x, x
 	b, bounded := bounds[name]
+	if logScale {
+		if err := checkLogScale(name, as, rows, x, b, bounded); err != nil {
+			return seedQuestion{}, err
+		}
+	}
+	// On the log scale the range is built from ln x; a lower bound of 0
+	// is ln 0 = −∞ there and cuts nothing.
+	scale := func(v float64) float64 { return v }
+	if logScale {
+		scale = math.Log
+	}
+	q := seedQuestion{name: name, log: logScale, realisation: scale(x)}
+	lo, hi := q.realisation, q.realisation
 	if bounded {
 		bf := fmt.Sprintf("bounds[%q]", name)
 		if math.IsNaN(b[0]) || math.IsInf(b[0], 0) || math.IsNaN(b[1]) || math.IsInf(b[1], 0) {
@@ -360,9 +391,16 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 				}
 			}
 		}
-		lo = math.Min(lo, a.Quantiles[0])
-		hi = math.Max(hi, a.Quantiles[len(a.Quantiles)-1])
-		q.answers = append(q.answers, seedAnswer{expert: index[a.Expert], q: a.Quantiles})
+		qs := a.Quantiles
+		if logScale {
+			qs = make([]float64, len(a.Quantiles))
+			for j, v := range a.Quantiles {
+				qs[j] = math.Log(v)
+			}
+		}
+		lo = math.Min(lo, qs[0])
+		hi = math.Max(hi, qs[len(qs)-1])
+		q.answers = append(q.answers, seedAnswer{expert: index[a.Expert], q: qs})
 	}
 	sort.Slice(q.answers, func(i, j int) bool { return q.answers[i].expert < q.answers[j].expert })
 	q.lo, q.hi = intrinsicRange(lo, hi, k)
@@ -374,9 +412,37 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 			"[%v, %v] widened by %v gives [%v, %v]", lo, hi, k, q.lo, q.hi)
 	}
 	if bounded {
-		q.lo, q.hi = math.Max(q.lo, b[0]), math.Min(q.hi, b[1])
+		q.lo, q.hi = math.Max(q.lo, scale(b[0])), math.Min(q.hi, scale(b[1]))
 	}
 	return q, nil
+}
+
+// checkLogScale holds a question scored on the log scale to
+// RuleLogScalePositive: its realisation, every quantile and its upper
+// bound above 0, its lower bound at least 0.
+func checkLogScale(name string, as []SeedAssessment, rows []int, x float64, b [2]float64, bounded bool) error {
+	if !(x > 0) {
+		return inputErr("realisations["+strconv.Quote(name)+"]", RuleLogScalePositive, "got %v", x)
+	}
+	if bounded && !(b[0] >= 0) {
+		return inputErr(fmt.Sprintf("bounds[%q]", name), RuleLogScalePositive, "lower bound %v is below 0", b[0])
+	}
+	for _, i := range rows {
+		for j, v := range as[i].Quantiles {
+			if !(v > 0) {
+				return inputErr(fmt.Sprintf("assessments[%d].quantiles[%d]", i, j), RuleLogScalePositive, "got %v", v)
+			}
+		}
+	}
+	return nil
+}
+
+// shown is v on the question's own scale: exp v on the log scale.
+func (q seedQuestion) shown(v float64) float64 {
+	if q.log {
+		return math.Exp(v)
+	}
+	return v
 }
 
 // intrinsicRange widens [lo, hi] by k(hi−lo) on each side.
@@ -551,7 +617,7 @@ func (s *seedSet) weightedPool(w []float64) (PooledScore, []SeedResult) {
 	var pooled PooledScore
 	info := 0.0
 	for i, q := range s.questions {
-		res[i] = SeedResult{Question: q.name, Realisation: q.realisation, Lower: q.lo, Upper: q.hi}
+		res[i] = SeedResult{Question: q.name, Realisation: q.shown(q.realisation), Lower: q.shown(q.lo), Upper: q.shown(q.hi), LogScale: q.log}
 		d, ok := s.poolQuestion(q, w)
 		if !ok {
 			continue
@@ -560,10 +626,13 @@ func (s *seedSet) weightedPool(w []float64) (PooledScore, []SeedResult) {
 		for j, p := range s.probs {
 			qs[j] = d.Quantile(p)
 		}
-		res[i].Pooled = qs
 		counts[binOf(qs, q.realisation)]++
 		info += information(qs, s.binP, q.lo, q.hi)
 		pooled.N++
+		for j := range qs {
+			qs[j] = q.shown(qs[j])
+		}
+		res[i].Pooled = qs
 	}
 	if pooled.N == 0 {
 		return pooled, res
@@ -913,7 +982,7 @@ func poolMinimalInformation(answers map[string][]float64, probs []float64, weigh
 	if len(answers[names[0]]) > 0 {
 		stand = answers[names[0]][0]
 	}
-	set, err := newSeedSet(as, map[string]float64{target: stand}, bm, overshoot)
+	set, err := newSeedSet(as, map[string]float64{target: stand}, bm, overshoot, nil)
 	if err != nil {
 		return PiecewiseUniform{}, renameAssessments(err, names)
 	}

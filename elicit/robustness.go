@@ -30,7 +30,8 @@ type RobustnessTarget struct {
 // Shifts[t] is the largest of |Δq₀.₀₅|, |Δq₀.₅|, |Δq₀.₉₅| on target t
 // between this case's pool and the full panel's, in units of the
 // target's width (Upper − Lower of the fits; for a calibration question,
-// its bounds' width when it has bounds, else U* − L*), so for a
+// its bounds' width when it has bounds, else U* − L*; for one on the log
+// scale, the shift of ln x against U* − L* on ln x), so for a
 // proportion on [0, 1] it is the absolute shift.
 // Shift is the largest over targets. Unpooled names the targets on which
 // no expert with weight remains. Error, when set, says why the rerun
@@ -77,17 +78,19 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 	if err != nil {
 		return LeaveOneOutReport{}, err
 	}
-	set, _ := newSeedSet(assessments, realisations, bounds, opt.Overshoot) // valid: ClassicalModel accepted it
+	set, _ := newSeedSet(assessments, realisations, bounds, opt.Overshoot, opt.LogScale) // valid: ClassicalModel accepted it
 	watch, err := newWatchers(set, bounds, targets)
 	if err != nil {
 		return LeaveOneOutReport{}, err
 	}
 	rep := LeaveOneOutReport{}
 	fullW := full.Weights()
-	for _, w := range watch {
+	fullRaw := make([][]float64, len(watch))
+	for t, w := range watch {
 		rep.Targets = append(rep.Targets, w.name)
 		qs, _ := w.percentiles(fullW)
-		rep.Full = append(rep.Full, qs)
+		fullRaw[t] = qs
+		rep.Full = append(rep.Full, w.shownAll(qs))
 	}
 	run := func(c LeaveOneOutCase, keep func(SeedAssessment) bool) {
 		var sub []SeedAssessment
@@ -107,13 +110,13 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 		c.Percentiles = make([][]float64, len(watch))
 		for t, w := range watch {
 			qs, ok := w.percentiles(c.Weights)
-			if !ok || rep.Full[t] == nil {
+			if !ok || fullRaw[t] == nil {
 				c.Unpooled = append(c.Unpooled, w.name)
 				continue
 			}
-			c.Percentiles[t] = qs
+			c.Percentiles[t] = w.shownAll(qs)
 			for i := range qs {
-				c.Shifts[t] = math.Max(c.Shifts[t], math.Abs(qs[i]-rep.Full[t][i])/w.width)
+				c.Shifts[t] = math.Max(c.Shifts[t], math.Abs(qs[i]-fullRaw[t][i])/w.width)
 			}
 			c.Shift = math.Max(c.Shift, c.Shifts[t])
 		}
@@ -129,22 +132,41 @@ func LeaveOneOut(assessments []SeedAssessment, realisations map[string]float64, 
 	return rep, nil
 }
 
-// watcher computes one target's pooled percentiles for given weights.
+// watcher computes one target's pooled percentiles for given weights,
+// on the scale its shifts are measured on (ln x for a calibration
+// question on the log scale), of which width is the range; shown takes
+// them back to the question's own scale (nil: they are on it).
 type watcher struct {
 	name        string
 	width       float64
 	percentiles func(w map[string]float64) ([]float64, bool)
+	shown       func(float64) float64
+}
+
+// shownAll is qs on the target's own scale; nil stays nil.
+func (w watcher) shownAll(qs []float64) []float64 {
+	if w.shown == nil || qs == nil {
+		return qs
+	}
+	out := make([]float64, len(qs))
+	for i, v := range qs {
+		out[i] = w.shown(v)
+	}
+	return out
 }
 
 func newWatchers(set *seedSet, bounds map[string][2]float64, targets []RobustnessTarget) ([]watcher, error) {
 	var out []watcher
 	if len(targets) == 0 {
 		for _, q := range set.questions {
+			// On the log scale a shift is measured in ln x, against the
+			// intrinsic range on ln x (a lower bound of 0 has no
+			// logarithm to measure from).
 			width := q.hi - q.lo
-			if b, ok := bounds[q.name]; ok {
+			if b, ok := bounds[q.name]; ok && !q.log {
 				width = b[1] - b[0]
 			}
-			out = append(out, watcher{name: q.name, width: width, percentiles: func(w map[string]float64) ([]float64, bool) {
+			out = append(out, watcher{name: q.name, width: width, shown: q.shown, percentiles: func(w map[string]float64) ([]float64, bool) {
 				ws := make([]float64, len(set.experts))
 				for i, e := range set.experts {
 					ws[i] = w[e]

@@ -23,7 +23,7 @@ func init() {
 
 func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("calibrate", stderr)
-	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95, optionally lower,upper after realization (- for standard input)")
+	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95, optionally lower,upper after realization and scale (uniform or log) before the quantiles (- for standard input)")
 	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the performance-weighted pool's score as if it were an expert)")
 	overshoot := fs.String("overshoot", "", "widening k of each question's intrinsic range (default 0.1)")
 	format := fs.String("format", "text", "text or json")
@@ -68,6 +68,7 @@ func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int 
 	if err != nil {
 		return fail(stderr, "calibrate", err)
 	}
+	opt.LogScale = seeds.logScale
 	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, seeds.bounds, opt)
 	if err != nil {
 		return fail(stderr, "calibrate", seeds.rowError(err))
@@ -101,7 +102,7 @@ func writeCalibration(w io.Writer, format string, s elicit.Scores, rob *elicit.L
 		return err
 	}
 	if rob != nil {
-		return writeLeaveOneOut(w, *rob)
+		return writeLeaveOneOut(w, *rob, s)
 	}
 	return nil
 }
@@ -148,6 +149,7 @@ type seedCSV struct {
 	assessments  []elicit.SeedAssessment
 	realisations map[string]float64
 	bounds       map[string][2]float64 // questions with a lower and an upper bound
+	logScale     map[string]bool       // questions scored against the log-uniform background
 	rows         []int
 	qcols        []string // the quantile columns' names
 }
@@ -165,6 +167,12 @@ var seedHeader = []string{"expert", "question", "realization"}
 // proportion). The intrinsic range is cut to them, as on the calibration
 // page, so the same answers score the same here and there.
 var boundColumns = []string{"lower", "upper"}
+
+// scaleColumn may stand right before the quantile columns: "log" scores
+// a question's information against the log-uniform background
+// (elicit.ModelOptions.LogScale), for quantities spread over orders of
+// magnitude; "uniform" or empty against the uniform, as the page does.
+const scaleColumn = "scale"
 
 // readSeedCSV reads a calibration CSV: a header expert,question,
 // realization, optionally lower,upper, followed by quantile columns qNN in
@@ -202,9 +210,11 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		return nil, err
 	}
 	firstQ := len(cols) - len(probs) // the first quantile column
-	hasBounds := firstQ > len(seedHeader)
-	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, qcols: cols[firstQ:]}
+	hasScale := cols[firstQ-1] == scaleColumn
+	hasBounds := firstQ-len(seedHeader) >= len(boundColumns)
+	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, logScale: map[string]bool{}, qcols: cols[firstQ:]}
 	realRow := map[string]int{}
+	scaleRow := map[string]int{}
 	boundsRow := map[string]int{}
 	seen := map[[2]string]int{}
 	for {
@@ -262,6 +272,21 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		if err := a.Validate(); err != nil {
 			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[firstQ:])
 		}
+		logScale := false
+		if hasScale {
+			if logScale, err = seedScale(field, cell(firstQ-1), x, b, bounded, a.Quantiles, cols[firstQ:]); err != nil {
+				return nil, err
+			}
+			if first, ok := scaleRow[a.Question]; ok && out.logScale[a.Question] != logScale {
+				return nil, &elicit.InputError{Field: field(scaleColumn), Rule: ruleSameScale,
+					Detail: fmt.Sprintf("%s here, %s on row %d", scaleWord(logScale), scaleWord(out.logScale[a.Question]), first)}
+			} else if !ok {
+				scaleRow[a.Question] = row
+				if logScale {
+					out.logScale[a.Question] = true
+				}
+			}
+		}
 		key := [2]string{a.Expert, a.Question}
 		if first, dup := seen[key]; dup {
 			return nil, &elicit.InputError{Field: field("expert, question"), Rule: elicit.RuleDuplicate,
@@ -302,6 +327,45 @@ const ruleSameRealisation elicit.Rule = "must be the same on every row of the qu
 
 // ruleSameBounds is broken when rows of one question give different bounds.
 const ruleSameBounds elicit.Rule = "must be the same on every row of the question (both empty for a question without bounds)"
+
+// ruleSameScale is broken when rows of one question give different scales.
+const ruleSameScale elicit.Rule = "must be the same on every row of the question (empty is uniform)"
+
+// ruleScaleWord is broken by a scale cell other than uniform, log or empty.
+const ruleScaleWord elicit.Rule = "must be uniform or log (empty is uniform)"
+
+// seedScale reads a row's scale cell, and holds a row on the log scale
+// to elicit.RuleLogScalePositive here, where the message can name the
+// row and the column.
+func seedScale(field func(string) string, cell string, x float64, b [2]float64, bounded bool, qs []float64, qcols []string) (bool, error) {
+	switch strings.ToLower(cell) {
+	case "", "uniform":
+		return false, nil
+	case "log":
+	default:
+		return false, &elicit.InputError{Field: field(scaleColumn), Rule: ruleScaleWord, Detail: fmt.Sprintf("got %q", input.Clip(cell, 40))}
+	}
+	if !(x > 0) {
+		return true, &elicit.InputError{Field: field("realization"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", x)}
+	}
+	if bounded && !(b[0] >= 0) {
+		return true, &elicit.InputError{Field: field("lower"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("a lower bound below 0 (%v); 0 leaves the range uncut below", b[0])}
+	}
+	for j, v := range qs {
+		if !(v > 0) {
+			return true, &elicit.InputError{Field: field(qcols[j]), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", v)}
+		}
+	}
+	return true, nil
+}
+
+// scaleWord names a scale in a message.
+func scaleWord(log bool) string {
+	if log {
+		return "log"
+	}
+	return "uniform"
+}
 
 // ruleBoundsPair is broken when a row gives one bound and not the other.
 const ruleBoundsPair elicit.Rule = "must both be given, or both be empty for a question without bounds"
@@ -375,6 +439,9 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 		return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(rest[0]), Rule: ruleSeedHeader,
 			Detail: "the bound columns are lower,upper, both, in that order, right after realization"}
 	}
+	if len(rest) >= 1 && rest[0] == scaleColumn {
+		rest = rest[1:]
+	}
 	var probs []float64
 	for _, c := range rest {
 		m := quantileColumn.FindStringSubmatch(c)
@@ -407,7 +474,7 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	return cols, probs, nil
 }
 
-const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization; other qNN columns allowed, increasing)"
+const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization, then scale; other qNN columns allowed, increasing)"
 
 // renameQuantiles turns a quantiles[j] field into the CSV column name, and
 // prefixes the row.
@@ -462,6 +529,15 @@ func writeScoresTable(w io.Writer, s elicit.Scores, optimised bool) error {
 	}
 	fmt.Fprintf(w, "Calibration questions: %d; probabilities %s; intrinsic range widened by %g\n",
 		len(s.Questions), strings.Join(probs, ", "), s.Overshoot)
+	var logged []string
+	for _, q := range s.Questions {
+		if q.LogScale {
+			logged = append(logged, q.Question)
+		}
+	}
+	if len(logged) > 0 {
+		fmt.Fprintf(w, "Information against the log-uniform background (range and overshoot on ln x): %s\n", strings.Join(logged, ", "))
+	}
 	// A fixed cut-off is printed as typed: to four figures, 0.53370129
 	// would read 0.5337, below a score of 0.5337 it leaves out.
 	alpha := strconv.FormatFloat(s.Alpha, 'g', 4, 64)
@@ -515,8 +591,14 @@ func scoreTexts(c, logC, info, combined float64, digits int) (string, string) {
 }
 
 // writeLeaveOneOut prints the robustness report as a table.
-func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport) error {
-	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range): %.4g\n\n", r.MaxShift)
+func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport, s elicit.Scores) error {
+	logNote := ""
+	for _, c := range s.Questions {
+		if c.LogScale {
+			logNote = "; on the log scale, of ln x against its intrinsic range on ln x"
+		}
+	}
+	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range%s): %.4g\n\n", logNote, r.MaxShift)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "left out\tname\talpha\tlargest shift\tnote")
 	for _, c := range r.Cases {

@@ -177,6 +177,7 @@ func TestCalibrateExtraQuantiles(t *testing.T) {
 func TestCalibrateBadInput(t *testing.T) {
 	const head = "expert,question,realization,q05,q50,q95\n"
 	const boundsHead = "expert,question,realization,lower,upper,q05,q50,q95\n"
+	const scaleHead = "expert,question,realization,lower,upper,scale,q05,q50,q95\n"
 	const adjacent = "A,q1,5,5,5.000000000000001,5.000000000000002\nB,q1,5,5,5.000000000000001,5.000000000000002\n"
 	for _, c := range []struct {
 		name string
@@ -230,6 +231,13 @@ func TestCalibrateBadInput(t *testing.T) {
 		{"quantile on a bound", boundsHead + "A,s1,1,0,9,0,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleValueInBounds)}},
 		{"bounds differ", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,0,10,0.5,1,2\n", nil, []string{"row 3: lower, upper", string(ruleSameBounds), "[0, 10] here, [0, 9] on row 2"}},
 		{"bounds dropped on one row", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,,,0.5,1,2\n", nil, []string{"row 3: lower, upper", "no bounds here, [0, 9] on row 2"}},
+		// A question on the log scale: its values above 0, its lower bound
+		// at least 0, one scale on every row; the word is uniform or log.
+		{"scale word", scaleHead + "A,s1,1,0,9,logarithmic,0.5,1,2\n", nil, []string{"row 2: scale", string(ruleScaleWord), `"logarithmic"`}},
+		{"log realization at 0", scaleHead + "A,s1,0,0,9,log,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleLogScalePositive)}},
+		{"log lower bound below 0", scaleHead + "A,s1,1,-1,9,log,0.5,1,2\n", nil, []string{"row 2: lower", string(elicit.RuleLogScalePositive)}},
+		{"log quantile below 0", "expert,question,realization,scale,q05,q50,q95\nA,s1,1,log,-0.5,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleLogScalePositive)}},
+		{"scales differ", scaleHead + "A,s1,1,0,9,log,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: scale", string(ruleSameScale), "uniform here, log on row 2"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -420,8 +428,9 @@ func TestCalibrateTextFixedCutOffAsTyped(t *testing.T) {
 // implementation of Cooke's classical model written apart from Parley,
 // with SciPy 1.10.1's chi-square tail (testdata/scipy/classical_reference.py;
 // its rows in classical_reference.csv), for the invented inverter seeds
-// with and without each question's bounds, with the cut-off optimised and
-// fixed at 0.1.
+// with and without each question's bounds, and with four rare-event
+// questions on the log scale (inverter_seeds_log.csv), with the cut-off
+// optimised and fixed at 0.1.
 func TestCalibrateAgainstSciPy(t *testing.T) {
 	f, err := os.Open("../../testdata/scipy/classical_reference.csv")
 	if err != nil {
@@ -440,8 +449,8 @@ func TestCalibrateAgainstSciPy(t *testing.T) {
 		k := run{row[0], row[1]}
 		want[k] = append(want[k], row[2:])
 	}
-	if len(want) != 4 {
-		t.Fatalf("%d runs in the reference, want 4", len(want))
+	if len(want) != 6 {
+		t.Fatalf("%d runs in the reference, want 6", len(want))
 	}
 	num := func(s string) float64 {
 		v, err := strconv.ParseFloat(s, 64)
@@ -699,4 +708,82 @@ func manySeedsCSV(t *testing.T) string {
 		t.Fatal(err)
 	}
 	return path
+}
+
+// TestCalibrateLogScale: a question whose scale cell is "log" is scored
+// against the log-uniform background. inverter_seeds_log.csv (invented)
+// has four rare-event shares spread over orders of magnitude on the log
+// scale: the calibration scores are those of the same answers on the
+// uniform background (a monotone scale keeps each true value in its
+// bin), the information scores are not (TestCalibrateAgainstSciPy checks
+// both against an implementation written apart). The text names the
+// questions on the log scale; the JSON marks them and gives their
+// intrinsic ranges and pools back on the question's own scale, as does
+// the leave-one-out report.
+func TestCalibrateLogScale(t *testing.T) {
+	const file = "../../testdata/calibration/inverter_seeds_log.csv"
+	raw, err := os.ReadFile(file)
+	if err != nil {
+		t.Fatal(err)
+	}
+	uniform := filepath.Join(t.TempDir(), "uniform.csv")
+	if err := os.WriteFile(uniform, bytes.ReplaceAll(raw, []byte(",log,"), []byte(",uniform,")), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	logged, plain := runCalibrateJSON(t, "--input", file), runCalibrateJSON(t, "--input", uniform)
+	for i, e := range logged.Experts {
+		if *e.Calibration != *plain.Experts[i].Calibration {
+			t.Errorf("%s: calibration %v on the log scale, %v on the uniform", e.Expert, *e.Calibration, *plain.Experts[i].Calibration)
+		}
+		if *e.Information == *plain.Experts[i].Information {
+			t.Errorf("%s: information %v on both scales", e.Expert, *e.Information)
+		}
+	}
+	code, out, errOut := runCLI(t, "", "calibrate", "--input", file, "--leave-one-out", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Questions   []elicit.SeedResult       `json:"questions"`
+		LeaveOneOut *elicit.LeaveOneOutReport `json:"leave_one_out"`
+	}
+	decodeJSON(t, out, &got)
+	logs := 0
+	for _, q := range got.Questions {
+		rare := strings.HasSuffix(q.Question, "_share") || strings.HasSuffix(q.Question, "_per_hour")
+		if q.LogScale != rare {
+			t.Errorf("%s: log_scale %v", q.Question, q.LogScale)
+		}
+		if !q.LogScale {
+			continue
+		}
+		logs++
+		// The range and the pool are on the question's own scale, inside
+		// (0, 1): a share, not its logarithm.
+		if !(q.Lower > 0 && q.Lower < q.Realisation && q.Realisation < q.Upper && q.Upper < 1) {
+			t.Errorf("%s: range [%v, %v] around %v", q.Question, q.Lower, q.Upper, q.Realisation)
+		}
+		if len(q.Pooled) != 3 || !(q.Pooled[0] > q.Lower && q.Pooled[2] < q.Upper) {
+			t.Errorf("%s: pooled %v in [%v, %v]", q.Question, q.Pooled, q.Lower, q.Upper)
+		}
+	}
+	if logs != 4 {
+		t.Errorf("%d questions on the log scale, want 4", logs)
+	}
+	rob := got.LeaveOneOut
+	if rob == nil || len(rob.Cases) != 6+4 {
+		t.Fatalf("leave_one_out: %+v", rob)
+	}
+	for i, name := range rob.Targets {
+		if strings.HasSuffix(name, "_share") || strings.HasSuffix(name, "_per_hour") {
+			if f := rob.Full[i]; len(f) != 3 || !(f[0] > 0 && f[2] < 1) {
+				t.Errorf("%s: full panel's percentiles %v, not on the question's scale", name, f)
+			}
+		}
+	}
+	code, out, _ = runCLI(t, "", "calibrate", "--input", file, "--leave-one-out")
+	if code != 0 || !strings.Contains(out, "Information against the log-uniform background (range and overshoot on ln x): arc_fault_rate_per_hour, connector_melt_share, firmware_bricked_share, surge_damage_share") ||
+		!strings.Contains(out, "else its intrinsic range; on the log scale, of ln x against its intrinsic range on ln x)") {
+		t.Errorf("text output:\n%s", out)
+	}
 }

@@ -1,0 +1,119 @@
+package elicit
+
+import (
+	"errors"
+	"math"
+	"testing"
+)
+
+// TestLogScaleIsTheUniformOnLogs: scoring a question against the
+// log-uniform background (ModelOptions.LogScale) is, by its definition
+// (Cooke 1991, ch. 12, from memory), scoring the logarithms of its values
+// against the uniform one: the same calibration and information scores,
+// weights and pool, with the range and the pool given back on the
+// question's own scale. Invented answers on rare-event shares.
+func TestLogScaleIsTheUniformOnLogs(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	answers := map[string]map[string][]float64{
+		"A": {"r1": {5e-7, 2e-6, 8e-6}, "r2": {1e-4, 5e-4, 2e-3}, "d": {4, 7, 10}},
+		"B": {"r1": {1e-7, 3e-6, 1e-4}, "r2": {1e-5, 1e-3, 1e-2}, "d": {3, 6, 14}},
+		"C": {"r1": {8e-6, 1e-5, 1.2e-5}, "r2": {1e-4, 1.2e-4, 1.4e-4}, "d": {8, 9, 10}},
+	}
+	truth := map[string]float64{"r1": 2e-6, "r2": 4e-4, "d": 6.5}
+	bounds := map[string][2]float64{"r1": {0, 1}, "r2": {0, 1}}
+	logs := map[string]bool{"r1": true, "r2": true}
+	var as, lnAs []SeedAssessment
+	lnTruth, lnBounds := map[string]float64{}, map[string][2]float64{}
+	for _, e := range []string{"A", "B", "C"} {
+		for q, v := range answers[e] {
+			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: v})
+			lv := append([]float64(nil), v...)
+			if logs[q] {
+				for i := range lv {
+					lv[i] = math.Log(lv[i])
+				}
+			}
+			lnAs = append(lnAs, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: lv})
+		}
+	}
+	for q, x := range truth {
+		lnTruth[q] = x
+		if logs[q] {
+			lnTruth[q] = math.Log(x)
+		}
+	}
+	// On ln x a lower bound of 0 is −∞ and cuts nothing; an upper bound of
+	// 1 is 0.
+	lnBounds["r1"], lnBounds["r2"] = [2]float64{-1000, 0}, [2]float64{-1000, 0}
+	got, err := ClassicalModel(as, truth, bounds, ModelOptions{LogScale: logs})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := ClassicalModel(lnAs, lnTruth, lnBounds, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	near := func(what string, a, b float64) {
+		t.Helper()
+		if math.Abs(a-b) > 1e-12*math.Max(1, math.Abs(b)) {
+			t.Errorf("%s: %v on the log scale, %v on the logarithms", what, a, b)
+		}
+	}
+	near("alpha", got.Alpha, want.Alpha)
+	for i, e := range got.Experts {
+		w := want.Experts[i]
+		near(e.Expert+" calibration", e.Calibration, w.Calibration)
+		near(e.Expert+" information", e.Information, w.Information)
+		near(e.Expert+" weight", e.Weight, w.Weight)
+	}
+	near("pooled information", got.Pooled.Information, want.Pooled.Information)
+	for i, q := range got.Questions {
+		w := want.Questions[i]
+		back := func(v float64) float64 { return v }
+		if logs[q.Question] {
+			back = math.Exp
+			if !q.LogScale {
+				t.Errorf("%s: not marked as on the log scale", q.Question)
+			}
+		}
+		near(q.Question+" lower", q.Lower, back(w.Lower))
+		near(q.Question+" upper", q.Upper, back(w.Upper))
+		near(q.Question+" realisation", q.Realisation, back(w.Realisation))
+		for j := range q.Pooled {
+			near(q.Question+" pooled", q.Pooled[j], back(w.Pooled[j]))
+		}
+	}
+	// Without the scale, the rare-event shares score otherwise.
+	plain, err := ClassicalModel(as, truth, bounds, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if plain.Experts[1].Information == got.Experts[1].Information {
+		t.Error("the log scale changes no information score")
+	}
+}
+
+// A question on the log scale needs its values above 0 and a lower bound
+// of at least 0.
+func TestLogScaleNeedsPositiveValues(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	logs := map[string]bool{"q": true}
+	for _, c := range []struct {
+		name   string
+		qs     []float64
+		truth  float64
+		bounds map[string][2]float64
+		field  string
+	}{
+		{"quantile at 0", []float64{-1, 1, 2}, 1, nil, "assessments[0].quantiles[0]"},
+		{"realisation at 0", []float64{0.5, 1, 2}, 0, nil, `realisations["q"]`},
+		{"lower bound below 0", []float64{0.5, 1, 2}, 1, map[string][2]float64{"q": {-1, 5}}, `bounds["q"]`},
+	} {
+		_, err := ClassicalModel([]SeedAssessment{{Expert: "A", Question: "q", Probs: probs, Quantiles: c.qs}},
+			map[string]float64{"q": c.truth}, c.bounds, ModelOptions{LogScale: logs})
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != RuleLogScalePositive {
+			t.Errorf("%s: %v, want %s: %s", c.name, err, c.field, RuleLogScalePositive)
+		}
+	}
+}
