@@ -62,8 +62,10 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 			return fmt.Errorf("store: edit question: %w", err)
 		}
 		// What the correction may not touch comes from the stored row.
-		q.WorkshopID, q.Position, q.Revealed, q.RevealedAt, q.RevealedThrough, q.Retired =
-			old.WorkshopID, old.Position, old.Revealed, old.RevealedAt, old.RevealedThrough, old.Retired
+		// The scale is set on the calibration page (SetLogScale); a
+		// correction keeps it and is held to it.
+		q.WorkshopID, q.Position, q.Revealed, q.RevealedAt, q.RevealedThrough, q.Retired, q.LogScale =
+			old.WorkshopID, old.Position, old.Revealed, old.RevealedAt, old.RevealedThrough, old.Retired, old.LogScale
 		if err := old.CheckCorrection(q, answers > 0); err != nil {
 			return err
 		}

@@ -18,8 +18,8 @@ import (
 )
 
 // fullWorkshop seeds a workshop through every kind of decision: two
-// rounds of revisions, a revealed truth, custom weights, a revoked expert
-// and two agreed priors.
+// rounds of revisions, a calibration question on the log scale with a
+// revealed truth, custom weights, a revoked expert and two agreed priors.
 func fullWorkshop(t *testing.T, db *DB) panel {
 	t.Helper()
 	ctx := context.Background()
@@ -44,6 +44,7 @@ func fullWorkshop(t *testing.T, db *DB) panel {
 	must(t, db.SaveRevision(ctx, &byPhone))
 	must(t, db.SetReasonWithheld(ctx, byPhone.ID, true, "names a person"))
 	must(t, db.RevokeExpert(ctx, p.experts[2].ID, "left"))
+	must(t, db.SetLogScale(ctx, p.qs[1].ID, true, "a share spread over orders of magnitude (invented)"))
 	must(t, db.SetTrueValue(ctx, p.qs[1].ID, 0.28, true, "seed revealed"))
 	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "audits",
 		ByExpert: map[int64]float64{p.experts[0].ID: 2, p.experts[1].ID: 1}}))

@@ -13,7 +13,7 @@ import (
 )
 
 const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
-	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired`
+	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired, log_scale`
 
 // AddQuestion appends q to its workshop's questions, recording
 // EventQuestionAdded. It sets q's ID and Position.
@@ -155,16 +155,57 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 	})
 }
 
+// SetLogScale sets whether a calibration question's information is
+// scored against the log-uniform background (workshop.Question.LogScale),
+// recording EventScaleSet with the required reason. The question must
+// allow it (Question.CheckLogScale); setting what is already set records
+// nothing.
+func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason string) error {
+	return db.write(ctx, func(tx *sql.Tx) error {
+		q, err := scanQuestion(tx.QueryRowContext(ctx,
+			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
+		if errors.Is(err, sql.ErrNoRows) {
+			return notFound("question", questionID)
+		}
+		if err != nil {
+			return err
+		}
+		if on {
+			if err := q.CheckLogScale(); err != nil {
+				return err
+			}
+		} else if !q.Calibration {
+			return &elicit.InputError{Field: "log_scale", Rule: elicit.RuleUnknown,
+				Detail: fmt.Sprintf("question %d is not a calibration question", questionID)}
+		}
+		if q.LogScale == on {
+			return nil
+		}
+		if reason == "" {
+			return &elicit.InputError{Field: "reason", Rule: elicit.RuleRequired, Detail: "a change of how a question is scored needs a reason"}
+		}
+		if _, err := tx.ExecContext(ctx, `UPDATE questions SET log_scale = ? WHERE id = ?`, boolInt(on), questionID); err != nil {
+			return fmt.Errorf("store: set log scale: %w", err)
+		}
+		detail, _ := json.Marshal(map[string]bool{"log_scale": on})
+		return insertEvent(ctx, tx, workshop.Event{
+			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventScaleSet,
+			At: now(), Reason: reason, Detail: string(detail),
+		})
+	})
+}
+
 func scanQuestion(s scanner) (workshop.Question, error) {
 	var (
 		q                        workshop.Question
 		format, probs, edges     string
 		calib, revealed, retired int
+		logScale                 int
 		truth                    sql.NullFloat64
 		revealedAt               sql.NullString
 	)
 	err := s.Scan(&q.ID, &q.WorkshopID, &q.Position, &q.Wording, &q.Quantity, &q.Units, &q.Lower, &q.Upper,
-		&format, &probs, &edges, &q.Chips, &calib, &truth, &revealed, &revealedAt, &q.RevealedThrough, &retired)
+		&format, &probs, &edges, &q.Chips, &calib, &truth, &revealed, &revealedAt, &q.RevealedThrough, &retired, &logScale)
 	if errors.Is(err, sql.ErrNoRows) {
 		return q, err
 	}
@@ -172,7 +213,7 @@ func scanQuestion(s scanner) (workshop.Question, error) {
 		return q, fmt.Errorf("store: read question: %w", err)
 	}
 	q.Format = workshop.AnswerFormat(format)
-	q.Calibration, q.Revealed, q.Retired = calib == 1, revealed == 1, retired == 1
+	q.Calibration, q.Revealed, q.Retired, q.LogScale = calib == 1, revealed == 1, retired == 1, logScale == 1
 	if revealedAt.Valid {
 		t, err := parseTime(revealedAt.String)
 		if err != nil {

@@ -25,11 +25,13 @@ import (
 //	GET  /w/{workshop}/calibration[?alpha=A]       questions, scores, robustness, pools side by side
 //	GET  /w/{workshop}/calibration.csv[?alpha=A]   the scored answers, for parley calibrate
 //	POST /w/{workshop}/calibration/q/{question}    enter or reveal a true value
+//	POST /w/{workshop}/calibration/q/{question}/scale  score its information on the uniform or the log scale
 //	POST /w/{workshop}/calibration/weights         choose equal, performance or custom weights
 func (s *Server) calibrationRoutes(r chi.Router) {
 	r.Get("/calibration", s.calibrationPage)
 	r.Get("/calibration.csv", s.calibrationCSV)
 	r.Post("/calibration/q/{question}", s.setTrueValue)
+	r.Post("/calibration/q/{question}/scale", s.setScale)
 	r.Post("/calibration/weights", s.setCalibrationWeights)
 }
 
@@ -42,6 +44,7 @@ type seedRow struct {
 	Answered    []string
 	NotAnswered []string
 	Form        *Form
+	ScaleForm   *Form // the scale form, shown open when it has errors
 }
 
 // calibrationView is the facilitator's calibration page.
@@ -78,6 +81,8 @@ type calibrationView struct {
 type calibrationForms struct {
 	truthFor int64 // the question whose truth form is shown again
 	truth    *Form
+	scaleFor int64 // the question whose scale form is shown again
+	scale    *Form
 	alpha    *Form
 	weights  *Form
 }
@@ -181,7 +186,11 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		if !q.Calibration {
 			continue
 		}
-		row := seedRow{Question: q, Form: newForm(nil)}
+		row := seedRow{Question: q, Form: newForm(nil), ScaleForm: newForm(nil)}
+		row.ScaleForm.Values.Set("scale", scaleValue(q.LogScale))
+		if forms.scale != nil && forms.scaleFor == q.ID {
+			row.ScaleForm = forms.scale
+		}
 		if forms.truth != nil && forms.truthFor == q.ID {
 			row.Form = forms.truth
 		} else if q.TrueValue != nil {
@@ -306,6 +315,85 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	http.Redirect(w, r, calibrationPath(ws.ID)+"#seed-"+strconv.FormatInt(q.ID, 10), http.StatusSeeOther)
+}
+
+// Scale values of the calibration page's scale form.
+const (
+	scaleUniform = "uniform"
+	scaleLog     = "log"
+)
+
+func scaleValue(log bool) string {
+	if log {
+		return scaleLog
+	}
+	return scaleUniform
+}
+
+// setScale sets whether a calibration question's information is scored
+// against the uniform or the log-uniform background, with the required
+// reason (Store.SetLogScale records it in the decision log).
+func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
+	ws, q, ok := s.loadWorkshopQuestion(w, r)
+	if !ok || !parseForm(w, r) {
+		return
+	}
+	f := newForm(r.PostForm)
+	var on bool
+	switch f.Value("scale") {
+	case scaleUniform:
+	case scaleLog:
+		on = true
+	default:
+		f.set("scale", "choose the uniform or the log scale")
+	}
+	if f.Error("scale") == "" && on {
+		if err := q.CheckLogScale(); err != nil {
+			f.set("scale", logScaleRefusal(q))
+		}
+	}
+	reason := f.Text("reason", input.MaxLongText, on != q.LogScale)
+	if f.OK() {
+		err := s.store.SetLogScale(r.Context(), q.ID, on, reason)
+		switch {
+		case err == nil:
+		case isInputError(err):
+			f.Fail(err, nil)
+		case !s.notSaved(r, f, err):
+			s.fail(w, r, err)
+			return
+		}
+	}
+	if !f.OK() {
+		s.showCalibration(w, r, f.refusedStatus(), ws, calibrationForms{scaleFor: q.ID, scale: f})
+		return
+	}
+	http.Redirect(w, r, calibrationPath(ws.ID)+"#seed-"+strconv.FormatInt(q.ID, 10), http.StatusSeeOther)
+}
+
+// truthHint says which true values the question takes
+// (Question.CheckTrueValue): anywhere from its lower to its upper bound,
+// both included, as an observed share can be 0 or 1; on the log scale
+// above 0.
+func truthHint(q workshop.Question) string {
+	if q.LogScale {
+		return "Above " + fv(q.Lower) + " and at most " + fv(q.Upper) + " (the log scale needs it above 0)."
+	}
+	return "From " + fv(q.Lower) + " to " + fv(q.Upper) + ", either bound included."
+}
+
+// logScaleRefusal says why q cannot be scored on the log scale, in the
+// facilitator's words.
+func logScaleRefusal(q workshop.Question) string {
+	switch {
+	case !q.Calibration:
+		return "only a calibration question is scored"
+	case q.Lower < 0:
+		return "the log scale needs values above 0, and this question's lower bound is " + fv(q.Lower)
+	case q.TrueValue != nil && *q.TrueValue <= 0:
+		return "the log scale needs values above 0, and this question's true value is " + fv(*q.TrueValue)
+	}
+	return "this question cannot be scored on the log scale"
 }
 
 // setCalibrationWeights records the pool weights chosen on the
@@ -525,11 +613,14 @@ func basisSentence(b workshop.WeightBasis, labels map[int64]string) string {
 			l = "question " + strconv.FormatInt(q.QuestionID, 10)
 		}
 		if q.TrueValue != nil {
-			l += " (true value " + fv(*q.TrueValue) + ")"
+			l += " (true value " + fv(*q.TrueValue)
 		} else {
-			l += " (true value withheld until revealed)"
+			l += " (true value withheld until revealed"
 		}
-		qs = append(qs, l)
+		if q.LogScale {
+			l += ", information on the log scale"
+		}
+		qs = append(qs, l+")")
 	}
 	rule := "optimised"
 	if b.AlphaRule == workshop.AlphaFixed {

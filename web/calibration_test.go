@@ -886,3 +886,124 @@ func TestCalibrationCSVIsWhatThePageScores(t *testing.T) {
 		t.Errorf("signed out: %d %q", res.StatusCode, b)
 	}
 }
+
+// TestCalibrationQuestionOnTheLogScale: the facilitator scores a
+// calibration question's information on the log scale, with a reason, on
+// the calibration page. The page's scores are then the classical model's
+// with that question on the log scale (elicit.ModelOptions.LogScale,
+// checked against SciPy in cmd/parley); the change is in the decision
+// log; applying performance weights keeps the scale in the weights'
+// basis, so the record can score them again. Refusals name the field,
+// in words, and change nothing.
+func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	p.enterTruths(t, false)
+	q := p.seeds[0]
+	scalePath := seedPath(p.ws.ID, q.ID) + "/scale"
+	stored := func() bool {
+		t.Helper()
+		got, err := h.db.Question(ctx, q.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return got.LogScale
+	}
+	for _, c := range []struct {
+		name, field, want string
+		form              url.Values
+	}{
+		{"no reason", "reason", "", url.Values{"scale": {"log"}}},
+		{"no such scale", "scale", "choose the uniform or the log scale", url.Values{"scale": {"sideways"}, "reason": {"r"}}},
+	} {
+		before := h.counts(p.ws.ID)
+		res, body := h.post(scalePath, c.form)
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) || !strings.Contains(body, c.want) {
+			t.Errorf("%s: %d, field %s not marked with %q", c.name, res.StatusCode, c.field, c.want)
+		}
+		if stored() || h.counts(p.ws.ID) != before {
+			t.Fatalf("%s: something was saved", c.name)
+		}
+	}
+	res, body := h.post(scalePath, url.Values{"scale": {"log"}, "reason": {"The seed share spreads over orders of magnitude (invented)."}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set the log scale: %d\n%s", res.StatusCode, body)
+	}
+	if !stored() {
+		t.Fatal("the log scale is not stored")
+	}
+	_, body = h.get(p.path())
+	if !strings.Contains(body, "<strong>log scale</strong>") {
+		t.Error("the question's card does not say it is scored on the log scale")
+	}
+	// Each true-value field says what it takes: a bound is a true value
+	// (an observed share of 0 or 1), except 0 on the log scale.
+	for _, want := range []string{"Above 0 and at most 1 (the log scale needs it above 0).", "From 0 to 1, either bound included."} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the page lacks the hint %q", want)
+		}
+	}
+	if strings.Contains(body, "Strictly between") {
+		t.Error("a true-value hint says strictly between its bounds, which take a true value")
+	}
+	as, real, bounds := modelInput()
+	sc, err := elicit.ClassicalModel(as, real, bounds, elicit.ModelOptions{LogScale: map[string]bool{"seed0": true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain := model(t, nil)
+	for i, e := range sc.Experts {
+		if e.Information == plain.Experts[i].Information {
+			t.Fatalf("%s: the log scale leaves the information score at %v", e.Expert, e.Information)
+		}
+		if got := rowCells(t, body, "scores-table", e.Expert); len(got) < 3 || got[2] != fv(e.Information) {
+			t.Errorf("%s: row %v, want information %s (log scale)", e.Expert, got, fv(e.Information))
+		}
+	}
+	_, logPage := h.get(workshopPath(p.ws.ID) + "/log")
+	if !strings.Contains(logPage, "Calibration scale set") || !strings.Contains(logPage, "scored on the log scale") {
+		t.Error("the decision log does not record the scale")
+	}
+	// A true value of 0 cannot be taken on the log scale, nor the log
+	// scale with a true value of 0.
+	if res, body := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusUnprocessableEntity {
+		t.Errorf("a true value of 0 on the log scale: %d\n%s", res.StatusCode, body)
+	}
+	q2 := p.seeds[1]
+	if res, _ := h.post(seedPath(p.ws.ID, q2.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("a true value of 0 on the uniform scale: %d", res.StatusCode)
+	}
+	res, body = h.post(seedPath(p.ws.ID, q2.ID)+"/scale", url.Values{"scale": {"log"}, "reason": {"r"}})
+	if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "the log scale needs values above 0, and this question&#39;s true value is 0") {
+		t.Errorf("the log scale with a true value of 0: %d\n%s", res.StatusCode, body)
+	}
+	if res, _ := h.post(seedPath(p.ws.ID, q2.ID), url.Values{"true_value": {strconv.FormatFloat(seedTruths[1], 'g', -1, 64)}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("true value back: %d", res.StatusCode)
+	}
+	// Performance weights keep the scale in their basis.
+	if res, body := h.post(calibrationPath(p.ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"Scored (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("apply performance weights: %d\n%s", res.StatusCode, body)
+	}
+	wt, err := h.db.Weights(ctx, p.ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if wt.Basis == nil || !wt.Basis.Questions[0].LogScale || wt.Basis.Questions[1].LogScale {
+		t.Fatalf("basis questions %+v: the scale is not kept", wt.Basis)
+	}
+	bas, real2, bounds2, opt, err := wt.Basis.ModelInput()
+	if err != nil {
+		t.Fatal(err)
+	}
+	again, err := elicit.ClassicalModel(bas, real2, bounds2, opt)
+	if err != nil {
+		t.Fatal(err)
+	}
+	w := again.Weights()
+	for _, e := range wt.Basis.Experts {
+		if got := w[workshop.SeedExpertKey(e.ExpertID)]; got != e.Weight {
+			t.Errorf("basis scored again: expert %d weight %v, stored %v", e.ExpertID, got, e.Weight)
+		}
+	}
+}

@@ -107,6 +107,7 @@ var eventLabels = map[workshop.EventKind]string{
 	workshop.EventTruthEntered:     "True value entered (hidden)",
 	workshop.EventDataRecorded:     "Observed data recorded",
 	workshop.EventAnswersImported:  "Judgements imported from an answer sheet",
+	workshop.EventScaleSet:         "Calibration scale set",
 }
 
 func eventLabel(k workshop.EventKind) string {
@@ -144,6 +145,8 @@ type eventDetail struct {
 	Name    string           `json:"name"`
 	Rows    []int            `json:"rows"`
 	Channel workshop.Channel `json:"channel"`
+	// A calibration question's scale (workshop.EventScaleSet).
+	LogScale *bool `json:"log_scale"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'
@@ -262,6 +265,13 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			}
 			n := strconv.Itoa(len(d.Rows)) + " " + plural(len(d.Rows), "judgement", "judgements")
 			return n + ", " + plural(len(d.Rows), "row ", "rows ") + rowRanges(d.Rows) + " of " + sheet + " (SHA-256 " + d.SHA256 + "), entered by the facilitator " + channelRecorded(d.Channel) + "."
+		}
+	case workshop.EventScaleSet:
+		if d.LogScale != nil {
+			if *d.LogScale {
+				return "Its information is scored on the log scale, for a quantity spread over orders of magnitude."
+			}
+			return "Its information is scored on the uniform scale."
 		}
 	case workshop.EventTruthEntered:
 		return "Entered or changed, and kept hidden from the experts until it is revealed."

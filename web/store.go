@@ -41,6 +41,9 @@ type Store interface {
 	// recording EventTruthRevealed when reveal is true. The first reveal
 	// freezes the question's answers.
 	SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error
+	// SetLogScale sets whether a calibration question's information is
+	// scored on the log scale, recording the change with its reason.
+	SetLogScale(ctx context.Context, questionID int64, on bool, reason string) error
 	// Corrections, each with its event and reason.
 	CountAnswers(ctx context.Context, questionID int64) (int, error)
 	EditQuestion(ctx context.Context, q workshop.Question, reason string) error // workshop.Question.CheckCorrection

@@ -558,6 +558,14 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 	sameNames := func(s *workshop.Snapshot) { s.Experts[2].Name = "a" } // A and a
 	formula := func(s *workshop.Snapshot) { s.Experts[1].Name = "=B" }
 	hash := func(s *workshop.Snapshot) { s.Experts[0].Name = "#1 A" }
+	logScale := func(s *workshop.Snapshot) {
+		for i := range s.Questions {
+			if s.Questions[i].Calibration {
+				s.Questions[i].LogScale = true
+				return
+			}
+		}
+	}
 	fixed := 0.2
 	for _, c := range []struct {
 		name   string
@@ -570,6 +578,7 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 		{"two experts of one name", sameNames, nil},
 		{"a formula-like name", formula, nil},
 		{"a name starting with #", hash, nil},
+		{"a question on the log scale", logScale, nil},
 	} {
 		snap := workshoptest.ValveWear(true)
 		if c.change != nil {
@@ -586,6 +595,10 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 		}
 		if !strings.Contains(file.String(), ",lower,upper,") {
 			t.Fatalf("%s: no bound columns in\n%s", c.name, file.String())
+		}
+		if scaled := strings.Contains(file.String(), ",upper,scale,"); scaled != (c.name == "a question on the log scale") ||
+			scaled && !strings.Contains(file.String(), ",log,") {
+			t.Fatalf("%s: the scale column is wrong in\n%s", c.name, file.String())
 		}
 		args := []string{"calibrate", "--input", "-", "--format", "json"}
 		if c.alpha != nil {

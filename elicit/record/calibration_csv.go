@@ -23,8 +23,15 @@ import (
 // cut-off, given in the comment's command. Names that a spreadsheet would
 // run as a formula are prefixed with an apostrophe, as in WriteCSV, and so
 // are names starting with #, which the command would read as comments.
+// When a scored question is on the log scale (workshop.Question.LogScale)
+// a column scale follows upper, log or uniform on each row, as the
+// command reads it.
 func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet, alpha *float64) error {
 	header := []string{"expert", "question", "realization", "lower", "upper"}
+	scaled := len(set.LogScale) > 0
+	if scaled {
+		header = append(header, "scale")
+	}
 	for _, p := range set.Probs {
 		c, err := quantileColumn(p)
 		if err != nil {
@@ -74,6 +81,13 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 		}
 		row := []string{name, "Q" + strconv.Itoa(q.Position)}
 		row = append(row, floats(set.Realisations[a.Question], bounds[0], bounds[1])...)
+		if scaled {
+			scale := "uniform"
+			if set.LogScale[a.Question] {
+				scale = "log"
+			}
+			row = append(row, scale)
+		}
 		row = append(row, floats(a.Quantiles...)...)
 		if err := cw.Write(row); err != nil {
 			return err

@@ -52,6 +52,9 @@ type BasisQuestion struct {
 	TrueValueWithheld bool     `json:"true_value_withheld,omitempty"`
 	Lower             float64  `json:"lower"`
 	Upper             float64  `json:"upper"`
+	// LogScale: the question's information was scored against the
+	// log-uniform background (Question.LogScale).
+	LogScale bool `json:"log_scale,omitempty"`
 }
 
 // BasisAnswer is one calibration answer a WeightBasis scored: the
@@ -83,7 +86,7 @@ func NewWeightBasis(set CalibrationSet, p Performance) WeightBasis {
 	ids := map[string]int64{}
 	for _, q := range set.Questions {
 		tv := *q.TrueValue
-		b.Questions = append(b.Questions, BasisQuestion{QuestionID: q.ID, TrueValue: &tv, Lower: q.Lower, Upper: q.Upper})
+		b.Questions = append(b.Questions, BasisQuestion{QuestionID: q.ID, TrueValue: &tv, Lower: q.Lower, Upper: q.Upper, LogScale: q.LogScale})
 		ids[SeedQuestionKey(q.ID)] = q.ID
 	}
 	for _, e := range set.Experts {
@@ -104,6 +107,7 @@ func NewWeightBasis(set CalibrationSet, p Performance) WeightBasis {
 func (b WeightBasis) ModelInput() ([]elicit.SeedAssessment, map[string]float64, map[string][2]float64, elicit.ModelOptions, error) {
 	real := map[string]float64{}
 	bounds := map[string][2]float64{}
+	logs := map[string]bool{}
 	for i, q := range b.Questions {
 		if q.TrueValue == nil {
 			return nil, nil, nil, elicit.ModelOptions{}, inputErr(fmt.Sprintf("calibration_questions[%d].true_value", i), elicit.RuleRequired,
@@ -111,12 +115,15 @@ func (b WeightBasis) ModelInput() ([]elicit.SeedAssessment, map[string]float64, 
 		}
 		k := SeedQuestionKey(q.QuestionID)
 		real[k], bounds[k] = *q.TrueValue, [2]float64{q.Lower, q.Upper}
+		if q.LogScale {
+			logs[k] = true
+		}
 	}
 	as := make([]elicit.SeedAssessment, len(b.CalibrationAnswers))
 	for i, a := range b.CalibrationAnswers {
 		as[i] = elicit.SeedAssessment{Expert: SeedExpertKey(a.ExpertID), Question: SeedQuestionKey(a.QuestionID), Probs: b.Probs, Quantiles: a.Quantiles}
 	}
-	opt := elicit.ModelOptions{Overshoot: b.Overshoot}
+	opt := elicit.ModelOptions{Overshoot: b.Overshoot, LogScale: logs}
 	if b.AlphaRule == AlphaFixed {
 		a := b.Alpha
 		opt.Alpha = &a

@@ -37,6 +37,9 @@ type CalibrationSet struct {
 	RevisionIDs  []int64
 	Realisations map[string]float64
 	Bounds       map[string][2]float64
+	// LogScale names the scored questions on the log scale
+	// (Question.LogScale), by SeedQuestionKey.
+	LogScale map[string]bool
 }
 
 // SkippedQuestion is a calibration question left out of the scoring.
@@ -86,7 +89,7 @@ const AnswersRule = "each active expert's latest answer to each calibration ques
 // retired questions are skipped. With revealedOnly, a true value counts
 // only once revealed, so a record never scores against a hidden truth.
 func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revision, revealedOnly bool) CalibrationSet {
-	set := CalibrationSet{Answered: map[int64][]Expert{}, Realisations: map[string]float64{}, Bounds: map[string][2]float64{}}
+	set := CalibrationSet{Answered: map[int64][]Expert{}, Realisations: map[string]float64{}, Bounds: map[string][2]float64{}, LogScale: map[string]bool{}}
 	for _, e := range experts {
 		if !e.Revoked {
 			set.Experts = append(set.Experts, e)
@@ -127,6 +130,9 @@ func NewCalibrationSet(questions []Question, experts []Expert, revisions []Revis
 		set.Questions = append(set.Questions, q)
 		set.Realisations[key] = *q.TrueValue
 		set.Bounds[key] = [2]float64{q.Lower, q.Upper}
+		if q.LogScale {
+			set.LogScale[key] = true
+		}
 		for _, e := range set.Answered[q.ID] {
 			rv := latest[Key{q.ID, e.ID}]
 			set.Assessments = append(set.Assessments, elicit.SeedAssessment{
@@ -236,7 +242,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 		return Performance{}, inputErr("calibration_questions", elicit.RuleRequired,
 			"scoring needs answered calibration questions, each with its true value")
 	}
-	sc, err := elicit.ClassicalModel(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, Overshoot: elicit.DefaultOvershoot})
+	sc, err := elicit.ClassicalModel(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, Overshoot: elicit.DefaultOvershoot, LogScale: set.LogScale})
 	if err != nil {
 		return Performance{}, err
 	}
@@ -508,7 +514,7 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 		}
 		targets = append(targets, rt)
 	}
-	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha}, targets)
+	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, LogScale: set.LogScale}, targets)
 	if err != nil {
 		return Robustness{}, err
 	}

@@ -40,7 +40,8 @@ const MaxChips = 1000
 // MinProbGap apart; for
 // FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
 // increase from Lower to Upper and between elicit.MinChipBins and MaxChips
-// chips; a true value, if set, finite and within [Lower, Upper].
+// chips; a true value, if set, finite and within [Lower, Upper]; on the
+// log scale, a calibration question with values above 0 (CheckLogScale).
 func (q Question) Validate() error {
 	if err := q.checkText(); err != nil {
 		return err
@@ -76,6 +77,11 @@ func (q Question) Validate() error {
 		}
 	default:
 		return inputErr("format", elicit.RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
+	}
+	if q.LogScale {
+		if err := q.CheckLogScale(); err != nil {
+			return err
+		}
 	}
 	if t := q.TrueValue; t != nil {
 		return q.CheckTrueValue(*t)
@@ -122,6 +128,26 @@ func (q Question) CheckTrueValue(t float64) error {
 	}
 	if !(t >= q.Lower && t <= q.Upper) {
 		return inputErr("true_value", elicit.RuleInRange, "%v outside [%v, %v]", t, q.Lower, q.Upper)
+	}
+	if q.LogScale && !(t > 0) {
+		return inputErr("true_value", elicit.RuleLogScalePositive, "got %v", t)
+	}
+	return nil
+}
+
+// CheckLogScale checks that q may be scored on the log scale
+// (LogScale): a calibration question whose lower bound is at least 0, so
+// that every answer, strictly inside the bounds, is above 0, and whose
+// true value, when entered, is above 0. Errors name "log_scale".
+func (q Question) CheckLogScale() error {
+	if !q.Calibration {
+		return inputErr("log_scale", elicit.RuleUnknown, "question %d is not a calibration question", q.ID)
+	}
+	if !(q.Lower >= 0) {
+		return inputErr("log_scale", elicit.RuleLogScalePositive, "the lower bound is %v", q.Lower)
+	}
+	if q.TrueValue != nil && !(*q.TrueValue > 0) {
+		return inputErr("log_scale", elicit.RuleLogScalePositive, "the true value is %v", *q.TrueValue)
 	}
 	return nil
 }

@@ -75,6 +75,11 @@ type Question struct {
 	// Retired questions are hidden from experts and left out of pools and
 	// scores, but kept in the record.
 	Retired bool `json:"retired,omitempty"`
+	// LogScale marks a calibration question whose information is scored
+	// against the log-uniform background (elicit.ModelOptions.LogScale),
+	// for a quantity spread over orders of magnitude; CheckLogScale holds
+	// it to values above 0.
+	LogScale bool `json:"log_scale,omitempty"`
 }
 
 // Frozen reports whether the question takes no more answers: a
@@ -232,6 +237,9 @@ const (
 	EventWorkshopEdited   EventKind = "workshop_edited"     // detail: the fields before and after
 	EventTruthEntered     EventKind = "truth_entered"       // a true value entered or changed, still hidden
 	EventDataRecorded     EventKind = "study_data_recorded" // observed data recorded against a question's agreed prior
+	// A calibration question's background measure set (uniform or log);
+	// detail: {"log_scale": bool}.
+	EventScaleSet EventKind = "calibration_scale_set"
 	// An answer sheet's judgements saved together; detail: SheetImport.
 	EventAnswersImported EventKind = "answers_imported"
 )
@@ -264,6 +272,7 @@ var EventKinds = []EventKind{
 	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
 	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
 	EventWorkshopEdited, EventTruthEntered, EventDataRecorded, EventAnswersImported,
+	EventScaleSet,
 }
 
 // Event is one facilitator decision with its time and reason. Detail holds
