@@ -39,6 +39,17 @@ const (
 // so is a wrong type. Trailing data or more than MaxBytes are refused too.
 // Every error is an *elicit.InputError.
 func Parse(rd io.Reader) (Record, error) {
+	r, err := Decode(rd)
+	if err != nil {
+		return Record{}, err
+	}
+	return r, r.Validate()
+}
+
+// Decode is Parse without Validate: the record read strictly as JSON in
+// its layout, its contents not yet checked. parley fingerprint reads a
+// record so, as it needs only the facts the chain runs over.
+func Decode(rd io.Reader) (Record, error) {
 	b, err := io.ReadAll(io.LimitReader(rd, MaxBytes+1))
 	if err != nil {
 		return Record{}, inputErr("record", RuleJSON, "%v", err)
@@ -62,7 +73,7 @@ func Parse(rd io.Reader) (Record, error) {
 	if _, err := dec.Token(); err != io.EOF {
 		return Record{}, inputErr("record", RuleJSON, "data after the record")
 	}
-	return r, r.Validate()
+	return r, nil
 }
 
 // scanRecord reads doc against the layout of Record (input.ScanJSON) and

@@ -57,6 +57,13 @@ type Record struct {
 	// why it is absent when there are calibration questions.
 	Performance     *workshop.Performance `json:"performance,omitempty"`
 	PerformanceNote string                `json:"performance_note,omitempty"`
+	// Fingerprint is the record's fingerprint as it was written: the last
+	// value of its chain (package fingerprint), in 64 hex digits; Chain
+	// lists every fact with the value after it. Both are absent in
+	// records made before Parley kept them, and in a record narrowed to
+	// one question, which leaves facts out.
+	Fingerprint string `json:"fingerprint,omitempty"`
+	Chain       *Chain `json:"chain,omitempty"`
 }
 
 // Question is a question with its current state: each expert's
@@ -328,6 +335,7 @@ func build(src workshop.Snapshot, now time.Time, panels bool) (Record, error) {
 	if panels {
 		r.Performance, r.PerformanceNote = recordPerformance(src)
 	}
+	r.seal()
 	return r, nil
 }
 
@@ -417,6 +425,9 @@ func FitOf(f elicit.Fit) *Fit {
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	// The narrowed record leaves facts out, so it cannot carry the
+	// workshop's chain.
+	out.Fingerprint, out.Chain = "", nil
 	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
 	found := false
 	for _, q := range r.Questions {

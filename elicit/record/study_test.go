@@ -153,6 +153,7 @@ func TestValidateRefusesBadStudyData(t *testing.T) {
 	// A record made before Parley kept data reads.
 	r := buildInvented(t)
 	r.StudyData = nil
+	r.Fingerprint, r.Chain = "", nil // nor a chain
 	var buf bytes.Buffer
 	_ = r.WriteJSON(&buf)
 	var doc map[string]json.RawMessage
@@ -177,6 +178,7 @@ func TestValidateTakesADayObservedBeforeTheRule(t *testing.T) {
 	for _, day := range []string{"0026-05-31", "1899-12-31", "0001-01-01"} {
 		r := buildInvented(t)
 		r.StudyData[0].ObservedOn = day
+		r.seal() // as the record of such a batch is written
 		if err := r.Validate(); err != nil {
 			t.Errorf("observed on %s: %v", day, err)
 		}

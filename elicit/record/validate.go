@@ -26,7 +26,9 @@ import (
 // and an import keeps the history. A prior from the pool that names the
 // revisions it pooled must be the single Beta of their pool under its
 // weight set (RulePoolMismatch). The other derived numbers (the current
-// pools, snippets) are not trusted and not checked: an import drops them. The first broken rule is
+// pools, snippets) are not trusted and not checked: an import drops them. A record's chain and
+// fingerprint, where it has them, must be the ones its facts give
+// (CheckChain, RuleChainMismatch). The first broken rule is
 // returned as an *elicit.InputError whose Field is the path into the document,
 // e.g. "revisions[3].answer.values[1]".
 func (r Record) Validate() error {
@@ -231,7 +233,10 @@ func (r Record) validate(fits []elicit.Fit) error {
 			return err
 		}
 	}
-	return nil
+	// Last, so that every fact is otherwise sound: a caller that reads
+	// the chain alone (parley fingerprint) can tell a changed fact from a
+	// broken record.
+	return r.CheckChain()
 }
 
 // checkConsensusFit checks that a prior agreed from a consensus judgement
