@@ -1,0 +1,192 @@
+package main
+
+import (
+	"context"
+	"database/sql"
+	"encoding/json"
+	"os"
+	"path/filepath"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/store"
+)
+
+// closedRoundWorkshop is cliWorkshop with round 1 closed, round 2 opened
+// and one more answer and agreement after the close.
+func closedRoundWorkshop(t *testing.T) (path string, workshopID int64) {
+	t.Helper()
+	path, wid, qid := cliWorkshop(t)
+	db, err := store.Open(path)
+	check(t, err)
+	defer db.Close()
+	ctx := context.Background()
+	check(t, db.SetRound(ctx, wid, 1, false, "everyone has answered"))
+	check(t, db.SetRound(ctx, wid, 2, true, "after the discussion"))
+	es, err := db.Experts(ctx, wid)
+	check(t, err)
+	r := workshop.Revision{QuestionID: qid, ExpertID: es[0].ID, Reason: "moved after hearing the others",
+		Answer: workshop.Answer{Values: []float64{0.12, 0.22, 0.38}}}
+	check(t, db.SaveRevision(ctx, &r))
+	check(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: qid, Source: workshop.PriorFromPool,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 5, Beta: 15}), Rationale: "after round 2", RoundOpen: true}))
+	return path, wid
+}
+
+var roundOneLine = regexp.MustCompile(`after round 1 closed \([^)]*\): ([0-9a-f]{4} [0-9a-f]{4} [0-9a-f]{4} [0-9a-f]{4})\n`)
+
+// roundOneValue runs parley fingerprint on a record file and returns the
+// fingerprint it lists after round 1's close, with the exit status.
+func roundOneValue(t *testing.T, file string) (string, int) {
+	t.Helper()
+	code, out, errs := run("fingerprint", "--in", file)
+	m := roundOneLine.FindStringSubmatch(out)
+	if m == nil {
+		t.Fatalf("fingerprint --in %s: exit %d, no round 1 in %q (%s)", filepath.Base(file), code, out, errs)
+	}
+	return m[1], code
+}
+
+// editJSON writes a copy of the record file with edit applied to its
+// decoded document.
+func editJSON(t *testing.T, file string, edit func(doc map[string]any)) string {
+	t.Helper()
+	b, err := os.ReadFile(file)
+	check(t, err)
+	var doc map[string]any
+	check(t, json.Unmarshal(b, &doc))
+	edit(doc)
+	b, err = json.Marshal(doc)
+	check(t, err)
+	out := filepath.Join(t.TempDir(), "edited.json")
+	check(t, os.WriteFile(out, b, 0o644))
+	return out
+}
+
+// A value noted when round 1 closed is found in the record exported
+// later; a record changed afterwards, in its JSON or in the database
+// with the append-only trigger dropped, no longer shows it.
+func TestFingerprintCommand(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	noted, code := roundOneValue(t, file)
+	if code != exitOK {
+		t.Fatalf("fingerprint of the record as exported: exit %d", code)
+	}
+	b, err := os.ReadFile(file)
+	check(t, err)
+	rec, err := record.Parse(strings.NewReader(string(b)))
+	check(t, err)
+	code, out, errs := run("fingerprint", "--in", file)
+	if code != exitOK || !strings.Contains(out, "now, after all "+strconv.Itoa(len(rec.Chain.Facts))+" facts: ") ||
+		!strings.Contains(out, "(in full "+rec.Fingerprint+")") {
+		t.Fatalf("listing: exit %d, %q %s", code, out, errs)
+	}
+
+	code, out, errs = run("fingerprint", "--check", noted, "--in", file)
+	if code != exitOK || !strings.Contains(out, noted+" matches the record's fingerprint after round 1 closed") {
+		t.Fatalf("check of the noted value: exit %d, %q %s", code, out, errs)
+	}
+	// Upper case, and all 64 digits of the head, are taken too.
+	if code, out, errs := run("fingerprint", "--check", strings.ToUpper(noted), "--in", file); code != exitOK {
+		t.Fatalf("upper case: exit %d, %q %s", code, out, errs)
+	}
+	if code, out, errs := run("fingerprint", "--check", rec.Fingerprint, "--in", file); code != exitOK || !strings.Contains(out, "fact "+strconv.Itoa(len(rec.Chain.Facts))+" of") {
+		t.Fatalf("the head: exit %d, %q %s", code, out, errs)
+	}
+
+	// The JSON changed: a round 1 reason, and separately a round 1 value.
+	for name, edit := range map[string]func(doc map[string]any){
+		"a reason": func(doc map[string]any) {
+			doc["revisions"].([]any)[0].(map[string]any)["reason"] = "added later"
+		},
+		"a value": func(doc map[string]any) {
+			doc["revisions"].([]any)[0].(map[string]any)["answer"].(map[string]any)["values"] = []any{0.1, 0.21, 0.4}
+		},
+	} {
+		changed := editJSON(t, file, edit)
+		now, code := roundOneValue(t, changed)
+		if now == noted || code != exitFailure {
+			t.Errorf("%s changed: round 1's fingerprint %s (noted %s), exit %d, want another value and exit 1", name, now, noted, code)
+		}
+		code, out, errs := run("fingerprint", "--check", noted, "--in", changed)
+		if code != exitFailure || out == "" || !strings.Contains(errs, noted+" is not a fingerprint of this record at any point") {
+			t.Errorf("%s changed: check exit %d, %q %q", name, code, out, errs)
+		}
+		empty := filepath.Join(t.TempDir(), "empty.db")
+		code, _, errs = run("import", "--db", empty, "--in", changed)
+		if code != exitBadInput || !strings.Contains(errs, "revisions[0]") {
+			t.Errorf("%s changed: import exit %d: %s", name, code, errs)
+		}
+		if name == "a reason" && !strings.Contains(errs, string(record.RuleChainMismatch)) {
+			t.Errorf("a reason changed: import says %s, want %s", errs, record.RuleChainMismatch)
+		}
+	}
+
+	// The database changed behind the triggers' back, then exported
+	// again: the new record is consistent in itself, but round 1's
+	// fingerprint is not the one noted.
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	if _, err := raw.Exec(`DROP TRIGGER revisions_no_update`); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := raw.Exec(`UPDATE revisions SET reason = 'added later' WHERE id = (SELECT MIN(id) FROM revisions)`); err != nil {
+		t.Fatal(err)
+	}
+	check(t, raw.Close())
+	again := filepath.Join(t.TempDir(), "again.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", again); code != exitOK {
+		t.Fatalf("export after the change: %s", errs)
+	}
+	if now, code := roundOneValue(t, again); now == noted || code != exitOK {
+		t.Errorf("after the database was changed: round 1's fingerprint %s (noted %s), exit %d", now, noted, code)
+	}
+	if code, _, errs := run("fingerprint", "--check", noted, "--in", again); code != exitFailure || !strings.Contains(errs, "is not a fingerprint") {
+		t.Errorf("after the database was changed: check exit %d: %s", code, errs)
+	}
+
+	// A record made before Parley kept a chain is read from its facts:
+	// the same values.
+	old := editJSON(t, file, func(doc map[string]any) { delete(doc, "fingerprint"); delete(doc, "chain") })
+	if v, code := roundOneValue(t, old); v != noted || code != exitOK {
+		t.Errorf("record without a chain: round 1 %s (want %s), exit %d", v, noted, code)
+	}
+}
+
+// Bad input: exit 2 with the flag and the rule named, nothing else said.
+func TestFingerprintBadInput(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	notJSON := filepath.Join(t.TempDir(), "notes.txt")
+	check(t, os.WriteFile(notJSON, []byte("3f2a 91c0 7be4 0d15\n"), 0o644))
+	for _, tt := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"--check", "3f2a 91c0 7be4", "--in", file}, "check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a 91c0 7be4 0d1x", "--in", file}, "check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a-91c0-7be4-0d15", "--in", file}, "check: must be 16 hex digits"},
+		{[]string{"--in", file + ".missing"}, "--in:"},
+		{[]string{"--check", "3f2a 91c0 7be4 0d15"}, "--in: a JSON record file is required"},
+		{[]string{"--in", notJSON}, "record: " + string(record.RuleJSON)},
+		{[]string{file}, "unexpected argument"},
+	} {
+		code, out, errs := run(append([]string{"fingerprint"}, tt.args...)...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, tt.want) || strings.Count(errs, "\n") != 1 {
+			t.Errorf("fingerprint %q: exit %d, stdout %q, stderr %q, want exit 2 and %q", tt.args, code, out, errs, tt.want)
+		}
+	}
+}
