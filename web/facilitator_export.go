@@ -26,23 +26,9 @@ func (s *Server) record(ctx context.Context, ws workshop.Workshop) (record.Recor
 // buildRecord reads the workshop's snapshot and builds it with build
 // (record.Build, or record.BuildHistory where no panel is needed).
 func (s *Server) buildRecord(ctx context.Context, ws workshop.Workshop, build func(workshop.Snapshot, time.Time) (record.Record, error)) (record.Record, error) {
-	var src workshop.Snapshot
-	if rs, ok := s.store.(recordSourcer); ok {
-		var err error
-		if src, err = rs.Source(ctx, ws.ID); err != nil {
-			return record.Record{}, err
-		}
-	} else {
-		d, err := s.readWorkshopData(ctx, ws)
-		if err != nil {
-			return record.Record{}, err
-		}
-		evs, err := s.store.Events(ctx, ws.ID)
-		if err != nil {
-			return record.Record{}, err
-		}
-		src = workshop.Snapshot{Workshop: ws, Questions: d.Questions, Experts: d.Experts,
-			Revisions: d.Revisions, Weights: d.Weights, Priors: d.Priors, Events: evs}
+	src, err := s.snapshot(ctx, ws)
+	if err != nil {
+		return record.Record{}, err
 	}
 	return build(src, s.now())
 }

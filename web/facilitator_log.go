@@ -7,6 +7,7 @@ import (
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/fingerprint"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -16,11 +17,17 @@ import (
 type logView struct {
 	Workshop workshop.Workshop
 	Rows     []logRow
+	// Fingerprint is the record's fingerprint now (fingerprint.Value.Short).
+	Fingerprint string
 }
 
-// logRow is one decision as the log shows it.
+// logRow is one decision as the log shows it. A round's close carries the
+// record's fingerprint at that point, for the room to compare with what
+// it noted.
 type logRow struct {
 	When, Decision, AppliesTo, Reason, Detail string
+	Closed                                    int    // the round a round_closed entry closed
+	Fingerprint                               string // the record's fingerprint after it
 }
 
 func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
@@ -28,41 +35,23 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	evs, err := s.store.Events(r.Context(), ws.ID)
-	if err != nil {
-		s.fail(w, r, err)
-		return
-	}
-	qs, err := s.store.Questions(r.Context(), ws.ID)
-	if err != nil {
-		s.fail(w, r, err)
-		return
-	}
-	es, err := s.store.Experts(r.Context(), ws.ID)
-	if err != nil {
-		s.fail(w, r, err)
-		return
-	}
-	ps, err := s.store.AgreedPriors(r.Context(), ws.ID)
-	if err != nil {
-		s.fail(w, r, err)
-		return
-	}
-	revs, err := s.store.Revisions(r.Context(), ws.ID)
+	// One read of everything, so the log and its fingerprint agree.
+	src, err := s.snapshot(r.Context(), ws)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
 	m := facilitatorMeta(ws, "Decision log", "log")
 	// An agreement's entry writes the agreed Beta: the caution goes with it.
-	m.Caution = len(ps) > 0
-	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, evs, qs, es, ps, revs)))
+	m.Caution = len(src.Priors) > 0
+	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, src.Events, src.Questions, src.Experts, src.Priors, src.Revisions, chainOf(src))))
 }
 
 // newLogView writes each event as a row of the log, naming experts and
 // questions instead of their ids; ps are the workshop's agreed priors,
-// for what an agreement's event does not carry (a consensus judgement).
-func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision) logView {
+// for what an agreement's event does not carry (a consensus judgement);
+// c is the record's fingerprint chain.
+func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, c fingerprint.Chain) logView {
 	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}}
 	for _, rv := range revs {
 		w.revisions[rv.ID] = rv
@@ -70,15 +59,22 @@ func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Questi
 	for _, q := range qs {
 		w.questions[q.ID] = q
 	}
-	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs))}
+	closes := c.RoundCloses()
+	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs)), Fingerprint: c.Head().Short()}
 	for _, e := range evs {
-		v.Rows = append(v.Rows, logRow{
+		row := logRow{
 			When:      e.At.UTC().Format("2006-01-02 15:04:05 UTC"),
 			Decision:  eventLabel(e.Kind),
 			AppliesTo: w.appliesTo(e),
 			Reason:    orDash(e.Reason),
 			Detail:    w.sentence(e),
-		})
+		}
+		for _, l := range closes {
+			if l.ID == e.ID {
+				row.Closed, row.Fingerprint = l.Closed, l.Value.Short()
+			}
+		}
+		v.Rows = append(v.Rows, row)
 	}
 	return v
 }

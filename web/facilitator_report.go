@@ -5,6 +5,7 @@ import (
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/fingerprint"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
@@ -17,6 +18,8 @@ type reportView struct {
 	Experts map[int64]workshop.Expert
 	Charts  map[int64]picture
 	Sheets  map[int64]workshop.SheetSource // which answer sheet and row a judgement came from
+	// Chain is the record's fingerprint chain, printed with the log.
+	Chain fingerprint.Chain
 }
 
 func (s *Server) report(w http.ResponseWriter, r *http.Request) {
@@ -29,7 +32,8 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]picture{}}
+	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]picture{},
+		Chain: fingerprint.Of(rec.Facts())}
 	for _, e := range rec.Experts {
 		v.Experts[e.ID] = e
 	}

@@ -44,6 +44,9 @@ type roomView struct {
 	// revealed: the room shows none of its answers, as the experts' pages
 	// do not (workshop.Question.PanelHeld).
 	Held bool
+	// Fingerprint is the record's fingerprint after the round closed
+	// (fingerprint.Value.Short), while it is closed, for the room to note.
+	Fingerprint string
 }
 
 // roomRound is the round whose close the room shows: while a round is
@@ -141,6 +144,13 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		v.Progress = strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " experts have " + verb + " this question in round " + strconv.Itoa(ws.Round) + " so far."
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
+		src, err := s.snapshot(r.Context(), ws)
+		if err != nil {
+			return err
+		}
+		if l, ok := closeOf(chainOf(src), ws.Round); ok {
+			v.Fingerprint = l.Value.Short()
+		}
 	}
 	if q.Retired {
 		v.Note = "This question has been retired: experts no longer see it."
