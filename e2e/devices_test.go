@@ -390,6 +390,14 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`)))
 	check(carmen, "expert round 1 closed, Q1", qURL(0), []int64{390}, true)
 	check(fac, "room view, round 1 closed", g.wsURL()+"/q/"+strconv.FormatInt(g.qs[0].ID, 10)+"/room", []int64{390, 1366}, true)
+	// The record fingerprint at round 1's close, on the log and the room view.
+	check(fac, "facilitator log, round 1 closed", facPages["log"], []int64{390, 1366}, true)
+	fac.viewport(1366, 900, false)
+	for name, url := range map[string]string{"log": facPages["log"], "room": g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10) + "/room"} {
+		fac.open(url)
+		fac.sees(name+" after round 1 closed", "Record fingerprint after round 1 closed:")
+		shots.take(fac, "device-fingerprint-"+name+"-round-1-closed-1366")
+	}
 	fac.viewport(1366, 900, false)
 	fac.open(g.wsURL())
 	fac.fill(`#rounds form`, "reason", "A second round (invented).")

@@ -41,7 +41,7 @@ func logPage(v logView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 2, "</span></h2><p>Every answer, agreement and decision saved moves it on. Note it when a round closes (the log keeps each close's value, and the room view shows it): a later copy of the record must show the same value for that close, or the record was changed since. <code>parley fingerprint --check</code> looks for a noted value in an exported record. Shown: the first 64 bits of a SHA-256 chain.</p></section>")
+		templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 2, "</span></h2><p>Every answer, agreement and decision saved moves it on. Note it when a round closes (the log keeps each close's value; the room view shows it): a later copy of the record must show the same value for that close, or the record was changed since. <code class=\"nowrap\">parley fingerprint --check</code> finds a noted value in an exported record. Shown: the first 64 bits of a SHA-256 chain.</p></section>")
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

@@ -104,6 +104,21 @@ func TestFingerprintCommand(t *testing.T) {
 		t.Fatalf("the head: exit %d, %q %s", code, out, errs)
 	}
 
+	// Imported into a fresh database, whose ids are the same, and
+	// exported again: the same fingerprint.
+	fresh := filepath.Join(t.TempDir(), "fresh.db")
+	code, out, errs = run("import", "--db", fresh, "--in", file)
+	if code != exitOK {
+		t.Fatalf("import: %s", errs)
+	}
+	copied := filepath.Join(t.TempDir(), "copied.json")
+	if code, _, errs := run("export", "--db", fresh, "--workshop", strings.TrimSpace(out), "--out", copied); code != exitOK {
+		t.Fatalf("export of the copy: %s", errs)
+	}
+	if b, err := os.ReadFile(copied); err != nil || !strings.Contains(string(b), `"fingerprint": "`+rec.Fingerprint+`"`) {
+		t.Errorf("the copy imported into a fresh database has another fingerprint (%v)", err)
+	}
+
 	// The JSON changed: a round 1 reason, and separately a round 1 value.
 	for name, edit := range map[string]func(doc map[string]any){
 		"a reason": func(doc map[string]any) {
