@@ -33,7 +33,7 @@ func closeValues(body string) map[string]string {
 // withheld reason are added after it, while the fingerprint now moves on.
 // The printed report carries both.
 func TestFingerprintShownToTheRoom(t *testing.T) {
-	h, ws, qs, _, links := seeded(t)
+	h, ws, qs, es, links := seeded(t)
 	wp := workshopPath(ws.ID)
 	room := roomPath(ws.ID, qs[0].ID)
 	logPath := wp + "/log"
@@ -46,6 +46,14 @@ func TestFingerprintShownToTheRoom(t *testing.T) {
 	before := fingerprintNow.FindStringSubmatch(body)
 	if before == nil {
 		t.Fatal("the log shows no fingerprint now")
+	}
+	// A weight set is a fact of the chain too.
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Audits (invented)."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), strconv.Itoa(i+1))
+	}
+	if r, _ := h.post(questionPath(ws.ID, qs[0].ID)+"/weights", wf); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d", r.StatusCode)
 	}
 	if r, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatal("close")
@@ -72,6 +80,13 @@ func TestFingerprintShownToTheRoom(t *testing.T) {
 		t.Fatal(err)
 	}
 	c := fingerprint.Of(rec.Facts())
+	kinds := map[fingerprint.Kind]bool{}
+	for _, l := range c.Links {
+		kinds[l.Kind] = true
+	}
+	if !kinds[fingerprint.KindWeightSet] || !kinds[fingerprint.KindRevision] || !kinds[fingerprint.KindEvent] {
+		t.Fatalf("the chain holds facts of kinds %v, want a weight set, revisions and events", kinds)
+	}
 	if cl := c.RoundCloses(); len(cl) != 1 || cl[0].Value.Short() != closed || rec.Fingerprint != c.Head().Hex() {
 		t.Fatalf("the export's round closes %v, want one at %s", cl, closed)
 	}

@@ -73,7 +73,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 		}
 		fmt.Fprintf(stdout, "now, after all %d facts: %s (in full %s)\n", len(c.Links), c.Head().Short(), c.Head().Hex())
 		if own != nil {
-			fmt.Fprintf(stderr, "parley fingerprint: the file's own chain disagrees with its facts, so the file was changed after it was written: %v\n", own)
+			fmt.Fprintf(stderr, "parley fingerprint: the file's own chain disagrees with its facts: %v\n", own)
 			return exitFailure
 		}
 		return exitOK
