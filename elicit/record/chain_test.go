@@ -102,6 +102,9 @@ func readPythonChains(t *testing.T) map[string]*pythonChain {
 	out := map[string]*pythonChain{}
 	var cur *pythonChain
 	sc := bufio.NewScanner(f)
+	if !sc.Scan() || !strings.HasPrefix(sc.Text(), "# made by testdata/fingerprint/chain.py with Python 3.") {
+		t.Fatalf("chain_reference.txt does not open naming the script and Python's version: %q", sc.Text())
+	}
 	for sc.Scan() {
 		fs := strings.Fields(sc.Text())
 		switch {
@@ -260,5 +263,21 @@ func TestNarrowedRecordCarriesNoChain(t *testing.T) {
 	}
 	if err := r.Validate(); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// A record made before Parley kept a chain (no fingerprint, no chain)
+// reads as before.
+func TestRecordWithoutChainReads(t *testing.T) {
+	doc := unchained(t, goodDoc(t))
+	if strings.Contains(doc, `"fingerprint"`) || strings.Contains(doc, `"chain"`) {
+		t.Fatal("the chain keys are still there")
+	}
+	r, err := Parse(strings.NewReader(doc))
+	if err != nil {
+		t.Fatal(err)
+	}
+	if r.Fingerprint != "" || r.Chain != nil {
+		t.Fatalf("read a fingerprint %q from a record without one", r.Fingerprint)
 	}
 }

@@ -8,7 +8,8 @@ calendar). Made with Python 3.11.2 (Debian's /usr/bin/python3).
 
     /usr/bin/python3 testdata/fingerprint/chain.py RECORD.json ... > OUT
 
-writes, for each record, a line "# record NAME" (the file's base name), a
+writes a first line naming itself and Python's version, then, for each
+record, a line "# record NAME" (the file's base name), a
 line "start HEX" (h0), one line "KIND ID VALUE" for each fact in the
 chain's order, and a line "head HEX". It reads only the facts, never the
 record's own "chain" or "fingerprint" keys.
@@ -194,6 +195,7 @@ def chain(rec):
 
 
 def main(paths):
+    print("# made by testdata/fingerprint/chain.py with Python %s, hashlib's SHA-256" % sys.version.split()[0])
     for path in paths:
         with open(path, encoding="utf-8") as f:
             # Whole numbers are kept as their text, so that a float field
