@@ -13,8 +13,9 @@ import (
 
 // The dependencies point inward: the mathematics imports nothing of
 // Parley, the input rules only its errors, the workshop the mathematics
-// and the input rules, the record and the answer sheet those and the
-// workshop (DEVELOPERS.md, "Layout"). Test files may import more.
+// and the input rules, the record's fingerprint the workshop, the record
+// and the answer sheet those and the workshop (the record also the
+// fingerprint) (DEVELOPERS.md, "Layout"). Test files may import more.
 func TestImportsPointInward(t *testing.T) {
 	const module = "github.com/parley-elicit/parley/"
 	allowed := map[string][]string{
@@ -22,7 +23,8 @@ func TestImportsPointInward(t *testing.T) {
 		"input":                 {"elicit"},
 		"workshop":              {"elicit", "elicit/input"},
 		"workshop/workshoptest": {"elicit", "elicit/workshop"},
-		"record":                {"elicit", "elicit/input", "elicit/workshop"},
+		"fingerprint":           {"elicit", "elicit/workshop"},
+		"record":                {"elicit", "elicit/input", "elicit/workshop", "elicit/fingerprint"},
 		"answersheet":           {"elicit", "elicit/input", "elicit/workshop"},
 	}
 	dirs := 0
