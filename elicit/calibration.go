@@ -33,6 +33,12 @@ const (
 	// logarithms, so its quantiles, its realisation and its upper bound
 	// must be above 0 (a lower bound of 0 leaves the range uncut below).
 	RuleLogScalePositive Rule = "must be above 0 on a question scored on the log scale"
+	// RuleLogScaleTooClose: on the log scale a quantile must keep a
+	// logarithm of its own, apart from the quantile before it and from
+	// the question's bounds; values a double or two apart can share one
+	// (ln 1e-300 = ln 1.0000000000000002e-300), which would leave a bin
+	// 0 wide on ln x.
+	RuleLogScaleTooClose Rule = "is too close to the quantile before it, or to a bound, to be told apart on the log scale"
 )
 
 // DefaultOvershoot is the k of the intrinsic range: the range spanned by
@@ -396,6 +402,12 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 			qs = make([]float64, len(a.Quantiles))
 			for j, v := range a.Quantiles {
 				qs[j] = math.Log(v)
+				// Each quantile keeps a logarithm of its own, apart
+				// from the one before and from the bounds.
+				if j > 0 && !(qs[j] > qs[j-1]) || bounded && !(qs[j] > scale(b[0]) && qs[j] < scale(b[1])) {
+					return seedQuestion{}, inputErr(fmt.Sprintf("assessments[%d].quantiles[%d]", i, j), RuleLogScaleTooClose,
+						"ln %v = %v", v, qs[j])
+				}
 			}
 		}
 		lo = math.Min(lo, qs[0])

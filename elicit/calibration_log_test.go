@@ -117,3 +117,42 @@ func TestLogScaleNeedsPositiveValues(t *testing.T) {
 		}
 	}
 }
+
+// TestLogScaleQuantilesThatMeetOnLogs: two quantiles a double apart can
+// share one logarithm (ln 1e-300 = ln 1.0000000000000002e-300 in
+// float64), and a quantile a double above a bound of 1e6 can share the
+// bound's. The bin between them is then 0 wide on ln x, its information
+// term ln(p/0) infinite, and the expert's information came out as 0 in
+// silence. They are refused, naming the quantile.
+func TestLogScaleQuantilesThatMeetOnLogs(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	logs := map[string]bool{"q": true}
+	above := math.Nextafter(1e6, 2e6)
+	for _, c := range []struct {
+		name   string
+		qs     []float64
+		truth  float64
+		bounds map[string][2]float64
+		field  string
+	}{
+		{"two quantiles", []float64{1e-300, math.Nextafter(1e-300, 1), 0.9}, 0.5, map[string][2]float64{"q": {0, 1}}, "assessments[0].quantiles[1]"},
+		{"a quantile and the lower bound", []float64{above, 1.5e6, 1.9e6}, 1.2e6, map[string][2]float64{"q": {1e6, 2e6}}, "assessments[0].quantiles[0]"},
+	} {
+		if math.Log(c.qs[0]) != math.Log(c.qs[1]) && math.Log(c.qs[0]) != math.Log(c.bounds["q"][0]) {
+			t.Fatalf("%s: the logarithms no longer meet", c.name)
+		}
+		as := []SeedAssessment{
+			{Expert: "A", Question: "q", Probs: probs, Quantiles: c.qs},
+			{Expert: "B", Question: "q", Probs: probs, Quantiles: []float64{c.truth * 0.9, c.truth, c.truth * 1.05}},
+		}
+		_, err := ClassicalModel(as, map[string]float64{"q": c.truth}, c.bounds, ModelOptions{LogScale: logs})
+		var ie *InputError
+		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != RuleLogScaleTooClose {
+			t.Errorf("%s: %v, want %s: %s", c.name, err, c.field, RuleLogScaleTooClose)
+		}
+		// On the uniform scale the same answers are told apart.
+		if _, err := ClassicalModel(as, map[string]float64{"q": c.truth}, c.bounds, ModelOptions{}); err != nil {
+			t.Errorf("%s, uniform scale: %v", c.name, err)
+		}
+	}
+}
