@@ -1007,3 +1007,73 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 		}
 	}
 }
+
+// TestCorrectionOfALogScaleQuestionSaysWhy: a correction keeps a
+// question's scale (set on the calibration page), and a correction that
+// the log scale cannot take (a lower bound below 0, or the question no
+// longer a calibration question) is refused naming the field the
+// facilitator changed, in words that say where the scale is set, not as
+// "log_scale: unknown value", a field the correction's form does not
+// have. Nothing is saved.
+func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	q := workshop.Question{WorkshopID: p.ws.ID, Wording: "Share of relays welded shut (invented)", Quantity: "welded share",
+		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	if res, _ := h.post(seedPath(p.ws.ID, q.ID)+"/scale", url.Values{"scale": {"log"}, "reason": {"Spread over orders of magnitude (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set the log scale: %d", res.StatusCode)
+	}
+	form := func(lower string, calibration bool) url.Values {
+		v := url.Values{"wording": {"Share of relays welded shut, corrected (invented)"}, "quantity": {"welded share"}, "lower": {lower}, "upper": {"1"},
+			"format": {"quantiles"}, "preset": {"p05_50_95"}, "reason": {"A correction (invented)."}}
+		if calibration {
+			v.Set("calibration", "on")
+			v.Set("true_value", "0.01")
+		}
+		return v
+	}
+	for _, c := range []struct {
+		name  string
+		form  url.Values
+		field string
+		want  string
+	}{
+		{"a lower bound below 0", form("-1", true), "lower", "must be at least 0 while the question&#39;s information is scored on the log scale"},
+		{"no longer a calibration question", form("0", false), "", "calibration: must stay ticked while the question&#39;s information is scored on the log scale: set it back to the uniform scale on the calibration page first"},
+	} {
+		before := h.counts(p.ws.ID)
+		res, body := h.post(questionPath(p.ws.ID, q.ID)+"/edit", c.form)
+		if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, c.want) || strings.Contains(body, "log_scale") ||
+			!strings.Contains(body, "calibration page") || c.field != "" && !hasFieldError(body, c.field) {
+			t.Errorf("%s: %d, want field %q marked with %q:\n%s", c.name, res.StatusCode, c.field, c.want, errorsOn(body))
+		}
+		got, err := h.db.Question(ctx, q.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if h.counts(p.ws.ID) != before || got.Lower != 0 || !got.Calibration || !got.LogScale {
+			t.Errorf("%s: something was saved: %+v", c.name, got)
+		}
+	}
+	// A correction the scale can take keeps it.
+	if res, body := h.post(questionPath(p.ws.ID, q.ID)+"/edit", form("0", true)); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("a correction of the wording: %d\n%s", res.StatusCode, errorsOn(body))
+	}
+	if got, _ := h.db.Question(ctx, q.ID); !got.LogScale || got.TrueValue == nil || *got.TrueValue != 0.01 {
+		t.Errorf("after a correction: %+v", got)
+	}
+}
+
+// errorsOn is a page's form-level and field errors, for a test's
+// message.
+func errorsOn(body string) string {
+	var out []string
+	for _, m := range regexp.MustCompile(`<[^>]*class="(?:form-error|field-error)"[^>]*>[^<]*`).FindAllString(body, -1) {
+		out = append(out, m)
+	}
+	return strings.Join(out, "\n")
+}

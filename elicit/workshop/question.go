@@ -13,6 +13,10 @@ import (
 const (
 	RuleQuantileFormat elicit.Rule = "format does not give quantile judgements"
 	RuleChipsExceeded  elicit.Rule = "more chips placed than the question allows"
+	// RuleLogScaleCalibration and RuleLogScaleLower hold a question whose
+	// information is scored on the log scale (Question.LogScale) to it.
+	RuleLogScaleCalibration elicit.Rule = "must stay ticked while the question's information is scored on the log scale: set it back to the uniform scale on the calibration page first"
+	RuleLogScaleLower       elicit.Rule = "must be at least 0 while the question's information is scored on the log scale (set on the calibration page)"
 )
 
 // Probability sets a facilitator can ask for in FormatQuantiles. They are
@@ -41,7 +45,9 @@ const MaxChips = 1000
 // FormatChips, elicit.MinBins to elicit.MaxBins bins whose edges strictly
 // increase from Lower to Upper and between elicit.MinChipBins and MaxChips
 // chips; a true value, if set, finite and within [Lower, Upper]; on the
-// log scale, a calibration question with values above 0 (CheckLogScale).
+// log scale, a calibration question with a lower bound of at least 0 and
+// a true value above 0 (RuleLogScaleCalibration, RuleLogScaleLower,
+// CheckTrueValue).
 func (q Question) Validate() error {
 	if err := q.checkText(); err != nil {
 		return err
@@ -79,8 +85,15 @@ func (q Question) Validate() error {
 		return inputErr("format", elicit.RuleUnknown, "%q is not one of %q, %q, %q", q.Format, FormatQuantiles, FormatInterval, FormatChips)
 	}
 	if q.LogScale {
-		if err := q.CheckLogScale(); err != nil {
-			return err
+		// A question already on the log scale is held to it by the
+		// field that would break it (a correction or an import names
+		// that field, not the scale, which is set elsewhere); the true
+		// value by CheckTrueValue.
+		if !q.Calibration {
+			return inputErr("calibration", RuleLogScaleCalibration, "")
+		}
+		if !(q.Lower >= 0) {
+			return inputErr("lower", RuleLogScaleLower, "got %v", q.Lower)
 		}
 	}
 	if t := q.TrueValue; t != nil {
