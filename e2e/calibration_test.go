@@ -155,3 +155,52 @@ func TestCalibrationScreenInBrowser(t *testing.T) {
 		shots.take(fac, "report-"+strconv.Itoa(width))
 	}
 }
+
+// TestCalibrationScaleFormInBrowser: the facilitator opens a calibration
+// question's scale choice (folded under its true-value form) at 1366 and
+// 390 px, asks for the log scale without a reason and is shown the form
+// again, open, with the reason marked; with a reason the card then says
+// "Information scored on the log scale". axe-core finds no serious or
+// critical violation with the form open and refused.
+func TestCalibrationScaleFormInBrowser(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	axe := axeSourceOrNothing(t)
+	b := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := b.person("facilitator")
+	signIn(t, site, fac)
+	wss, err := site.DB.Workshops(ctx)
+	if err != nil || len(wss) != 1 {
+		t.Fatalf("demo workshops %v, %v", wss, err)
+	}
+	page := site.URL + "/w/" + strconv.FormatInt(wss[0].ID, 10) + "/calibration"
+	form := `details.scale-choice form`
+	for _, width := range []int{1366, 390} {
+		fac.viewport(int64(width), 900, width < 500)
+		fac.open(page)
+		fac.do("open the scale choice", chromedp.Click(chromedp.CSS(`details.scale-choice summary`)))
+		fac.do("choose the log scale", chromedp.Click(chromedp.CSS(form+` input[name=scale][value=log]`)))
+		if st := fac.load("ask for the log scale without a reason", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
+			t.Fatalf("at %d px: the log scale without a reason answered %d", width, st)
+		}
+		if !eval[bool](fac, "form open", `document.querySelector("details.scale-choice[open] textarea[aria-invalid=true]") !== null`) {
+			t.Errorf("at %d px the refused scale form is not shown open with its reason marked", width)
+		}
+		fac.sees("refused scale form", "Reason for changing the scale", "Nothing was saved")
+		checkLayout(t, fac, "calibration page, scale refused", ".chart-weight-map .chart-svg", width)
+		if axe != "" {
+			accessible(t, fac, axe, fmt.Sprintf("calibration page with the scale refused at %d px", width))
+		}
+		shots.take(fac, "calibration-scale-refused-"+strconv.Itoa(width))
+	}
+	fac.fill(`details.scale-choice[open] form`, "reason", "Arc faults per hour spread over orders of magnitude (invented).")
+	if st := fac.load("set the log scale", chromedp.Click(chromedp.CSS(`details.scale-choice[open] form button[type=submit]`))); st != http.StatusOK {
+		t.Fatalf("set the log scale: %d", st)
+	}
+	fac.sees("calibration page", "Information scored on the log scale")
+	shots.take(fac, "calibration-scale-set-390")
+}
