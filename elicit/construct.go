@@ -290,30 +290,43 @@ func beyondDouble(d ScaledBeta, shown []ShownPoint, subject string) (string, boo
 	if d.Beta.Validate() != nil {
 		return "", false
 	}
-	w := d.width()
 	mirror := Beta{Alpha: d.Beta.Beta, Beta: d.Alpha}
+	return heldAsBound(d.Lower, d.Upper, shown, subject, func(p float64, upper bool) float64 {
+		if upper {
+			return logUnitQuantile(mirror, 1-p)
+		}
+		return logUnitQuantile(d.Beta, p)
+	})
+}
+
+// heldAsBound writes beyondDouble's message for any distribution on
+// [lower, upper]: logGap(p, upper) is ln of the distance, as a share of
+// the range, from the lower bound (or from the upper one) to the
+// p-quantile.
+func heldAsBound(lower, upper float64, shown []ShownPoint, subject string, logGap func(p float64, upper bool) float64) (string, bool) {
+	lnW := math.Log(upper - lower)
 	seen := map[float64]bool{}
 	var items []string
 	for _, s := range shown {
-		if seen[s.P] || !(s.P > 0 && s.P < 1) || (s.X != d.Lower && s.X != d.Upper) {
+		if seen[s.P] || !(s.P > 0 && s.P < 1) || (s.X != lower && s.X != upper) {
 			continue
 		}
 		seen[s.P] = true
 		name := subject + percentOf(s.P) + "% point"
-		if s.X == d.Lower {
-			v := FormatExp(math.Log(w)+logUnitQuantile(d.Beta, s.P), 2)
-			if d.Lower == 0 {
+		if s.X == lower {
+			v := FormatExp(lnW+logGap(s.P, false), 2)
+			if lower == 0 {
 				items = append(items, name+" is about "+v)
 			} else {
-				items = append(items, name+" lies about "+v+" above the lower bound, "+strconv.FormatFloat(d.Lower, 'g', -1, 64))
+				items = append(items, name+" lies about "+v+" above the lower bound, "+strconv.FormatFloat(lower, 'g', -1, 64))
 			}
 			continue
 		}
-		v := FormatExp(math.Log(w)+logUnitQuantile(mirror, 1-s.P), 2)
-		if d.OnUnit() {
+		v := FormatExp(lnW+logGap(s.P, true), 2)
+		if lower == 0 && upper == 1 {
 			items = append(items, name+" is about 1 − "+v)
 		} else {
-			items = append(items, name+" lies about "+v+" below the upper bound, "+strconv.FormatFloat(d.Upper, 'g', -1, 64))
+			items = append(items, name+" lies about "+v+" below the upper bound, "+strconv.FormatFloat(upper, 'g', -1, 64))
 		}
 	}
 	if len(items) == 0 {

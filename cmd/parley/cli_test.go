@@ -407,8 +407,10 @@ func TestPoolWithoutSingleBeta(t *testing.T) {
 }
 
 // A pool of one expert is that expert's Beta, exactly and without a
-// warning, even Beta(5, 0.001), whose grid quantiles crowd within an ulp
-// of 1.
+// warning that it is far from one, even Beta(5, 0.001), whose grid
+// quantiles crowd within an ulp of 1; its 95% point, 1 − 1.2e-1302
+// (ln = (ln 0.05 + ln 0.001 + lbeta(0.001, 5))/0.001, R 4.2.2's lbeta),
+// is written 1 and said to be.
 func TestPoolOfOneBetaIsThatBeta(t *testing.T) {
 	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
 	if code != 0 {
@@ -419,7 +421,8 @@ func TestPoolOfOneBetaIsThatBeta(t *testing.T) {
 		Warnings []string
 	}
 	decodeJSON(t, out, &got)
-	if got.Beta == nil || *got.Beta != (elicit.Beta{Alpha: 5, Beta: 0.001}) || len(got.Warnings) != 0 {
+	if got.Beta == nil || *got.Beta != (elicit.Beta{Alpha: 5, Beta: 0.001}) || len(got.Warnings) != 1 ||
+		!strings.HasPrefix(got.Warnings[0], "The pool's 95% point is about 1 − 1.2e-1302:") {
 		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
 	}
 }

@@ -73,6 +73,9 @@ type poolOutput struct {
 	BetaFit   *betaFit `json:"beta_fit"`
 	Warnings  []string `json:"warnings"`
 	Caution   string   `json:"caution"`
+
+	pool        elicit.Pool // the linear pool, for its points held as a bound
+	heldAsBound bool        // a quantile is written as the bound it lies inside
 }
 
 type betaFit struct {
@@ -229,6 +232,7 @@ func poolResult(in poolInput) (poolOutput, error) {
 		if err != nil {
 			return poolOutput{}, err
 		}
+		out.pool = p
 		if out.QuantileDetail, err = p.QuantileSet(probs); err != nil {
 			return poolOutput{}, err
 		}
@@ -270,6 +274,9 @@ func poolResult(in poolInput) (poolOutput, error) {
 	default:
 		return poolOutput{}, &elicit.InputError{Field: "method", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("got %q, want \"linear\" or \"log\"", in.Method)}
 	}
+	if w, ok := poolBeyondDouble(out, lower, upper); ok {
+		out.Warnings, out.heldAsBound = append(out.Warnings, w), true
+	}
 	nums := append([]float64{out.Mean, out.SD}, out.Quantiles...)
 	if out.Beta != nil {
 		nums = append(nums, out.Beta.Alpha, out.Beta.Beta)
@@ -278,6 +285,28 @@ func poolResult(in poolInput) (poolOutput, error) {
 		return poolOutput{}, errors.New("the pool produced a non-finite number; nothing printed")
 	}
 	return out, nil
+}
+
+// poolBeyondDouble is the warning that a quantile of the pool is written
+// as a bound it lies a hair inside (elicit.WarnBeyondDouble), with its
+// distance; the logarithmic pool is one Beta, its pool of one.
+func poolBeyondDouble(out poolOutput, lower, upper float64) (string, bool) {
+	var shown []elicit.ShownPoint
+	for i, p := range out.Probs {
+		shown = append(shown, elicit.ShownPoint{P: p, X: out.Quantiles[i]})
+	}
+	var p elicit.Pool
+	var err error
+	if out.Method == "log" {
+		p, err = elicit.LinearPool([]elicit.ScaledBeta{{Beta: *out.Beta, Lower: lower, Upper: upper}}, nil)
+	} else {
+		p, err = out.pool, nil
+	}
+	if err != nil {
+		return "", false
+	}
+	w, ok := p.BeyondDouble(shown)
+	return w.Message, ok
 }
 
 // poolExperts turns the experts of the input into elicit's types; a
@@ -310,6 +339,9 @@ func writePoolText(w io.Writer, o poolOutput) error {
 	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %s, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, in(o.Mean), o.SD)
 	for i, p := range o.Probs {
 		fmt.Fprintf(&b, "  quantile %-8g %s", p, in(o.Quantiles[i]))
+		if x := o.Quantiles[i]; (x == o.Lower || x == o.Upper) && o.heldAsBound {
+			fmt.Fprint(&b, " (nearer the bound than a double holds: see the warning below)")
+		}
 		if q := o.QuantileDetail[i]; !q.Unique {
 			fmt.Fprintf(&b, " (not unique: every value from %s to %s has this probability; the midpoint is shown)", in(q.Low), in(q.High))
 		}

@@ -325,3 +325,41 @@ func TestFitPercentilesBeyondDouble(t *testing.T) {
 		t.Errorf("JSON p05 %v, codes %v, warnings %v", got.Percentiles.P05, got.Codes, got.Warnings)
 	}
 }
+
+// TestPoolPointsBeyondDouble: `parley pool` of Beta(0.001, 0.001) and
+// Beta(0.002, 0.001) printed "quantile 0.05 0" and "quantile 0.95 1"
+// without a word, though the pool's points lie about 1.4e-748 above 0
+// and 1.1e-1067 below 1 (elicit.TestPoolPointsHeldAsABoundAreSaid, R
+// 4.2.2). The linear and the logarithmic pool now say so, with the
+// distance, in the text and the JSON's warnings.
+func TestPoolPointsBeyondDouble(t *testing.T) {
+	in := `{"experts":[{"alpha":0.001,"beta":0.001},{"alpha":0.002,"beta":0.001}],"probs":[0.05,0.5,0.95]}`
+	code, out, errOut := runCLI(t, in, "pool")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{"quantile 0.05     0 (nearer the bound than a double holds: see the warning below)",
+		"warning: The pool's 5% point is about 1.4e-748, and the pool's 95% point is about 1 − 1.1e-1067:"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text lacks %q:\n%s", want, out)
+		}
+	}
+	code, out, errOut = runCLI(t, in, "pool", "--format", "json")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	var got struct {
+		Quantiles []float64 `json:"quantiles"`
+		Warnings  []string  `json:"warnings"`
+	}
+	decodeJSON(t, out, &got)
+	if got.Quantiles[0] != 0 || !strings.Contains(strings.Join(got.Warnings, " "), "1.4e-748") {
+		t.Errorf("JSON quantiles %v, warnings %v", got.Quantiles, got.Warnings)
+	}
+	// The logarithmic pool is one Beta, Beta(0.0015, 0.001), whose 5%
+	// point is held as 0 as well.
+	code, out, errOut = runCLI(t, `{"experts":[{"alpha":0.001,"beta":0.001},{"alpha":0.002,"beta":0.001}],"method":"log"}`, "pool")
+	if code != 0 || !strings.Contains(out, "warning: The pool's 5% point is about") {
+		t.Errorf("log pool: exit %d %s\n%s", code, errOut, out)
+	}
+}
