@@ -156,3 +156,75 @@ func TestLogScaleQuantilesThatMeetOnLogs(t *testing.T) {
 		}
 	}
 }
+
+// TestLogScaleLeaveOneOutIsTheUniformOnLogs: on a calibration question on
+// the log scale, the leave-one-out shifts are the shifts of ln x against
+// the intrinsic range on ln x, and the percentiles are given back on the
+// question's own scale: the same report as the uniform model's on the
+// logarithms (the rare-event shares' ranges on ln x stay below ln 1 = 0,
+// so their upper bound of 1 cuts nothing and the logarithms are scored
+// without bounds). Invented answers, as in TestLogScaleIsTheUniformOnLogs.
+func TestLogScaleLeaveOneOutIsTheUniformOnLogs(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	answers := map[string]map[string][]float64{
+		"A": {"r1": {5e-7, 2e-6, 8e-6}, "r2": {1e-4, 5e-4, 2e-3}, "d": {4, 7, 10}},
+		"B": {"r1": {1e-7, 3e-6, 1e-4}, "r2": {1e-5, 1e-3, 1e-2}, "d": {3, 6, 14}},
+		"C": {"r1": {8e-6, 1e-5, 1.2e-5}, "r2": {1e-4, 1.2e-4, 1.4e-4}, "d": {8, 9, 10}},
+	}
+	truth := map[string]float64{"r1": 2e-6, "r2": 4e-4, "d": 6.5}
+	logs := map[string]bool{"r1": true, "r2": true}
+	var as, lnAs []SeedAssessment
+	lnTruth := map[string]float64{}
+	for _, e := range []string{"A", "B", "C"} {
+		for q, v := range answers[e] {
+			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: v})
+			lv := append([]float64(nil), v...)
+			if logs[q] {
+				for i := range lv {
+					lv[i] = math.Log(lv[i])
+				}
+			}
+			lnAs = append(lnAs, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: lv})
+		}
+	}
+	for q, x := range truth {
+		lnTruth[q] = x
+		if logs[q] {
+			lnTruth[q] = math.Log(x)
+		}
+	}
+	got, err := LeaveOneOut(as, truth, map[string][2]float64{"r1": {0, 1}, "r2": {0, 1}}, ModelOptions{LogScale: logs}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	want, err := LeaveOneOut(lnAs, lnTruth, nil, ModelOptions{}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	near := func(what string, a, b float64) {
+		t.Helper()
+		if math.Abs(a-b) > 1e-12*math.Max(1, math.Abs(b)) {
+			t.Errorf("%s: %v on the log scale, %v on the logarithms", what, a, b)
+		}
+	}
+	near("largest shift", got.MaxShift, want.MaxShift)
+	if len(got.Cases) != len(want.Cases) || len(got.Cases) != 6 {
+		t.Fatalf("%d and %d cases", len(got.Cases), len(want.Cases))
+	}
+	for ti, name := range got.Targets {
+		back := func(v float64) float64 { return v }
+		if logs[name] {
+			back = math.Exp
+		}
+		for i := range got.Full[ti] {
+			near(name+" full percentile", got.Full[ti][i], back(want.Full[ti][i]))
+		}
+		for ci, c := range got.Cases {
+			w := want.Cases[ci]
+			near(c.Name+" on "+name+" shift", c.Shifts[ti], w.Shifts[ti])
+			for i := range c.Percentiles[ti] {
+				near(c.Name+" on "+name+" percentile", c.Percentiles[ti][i], back(w.Percentiles[ti][i]))
+			}
+		}
+	}
+}
