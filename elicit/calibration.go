@@ -275,6 +275,10 @@ type seedQuestion struct {
 type seedAnswer struct {
 	expert int
 	q      []float64
+	// bin is the inter-quantile bin of the realisation, counted on the
+	// stated values (binOf): on the log scale ln can make a realisation
+	// a double above a quantile equal to it.
+	bin int
 }
 
 func newSeedSet(as []SeedAssessment, realisations map[string]float64, bounds map[string][2]float64, k float64, logScale map[string]bool) (*seedSet, error) {
@@ -412,7 +416,7 @@ func newSeedQuestion(name string, as []SeedAssessment, rows []int, index map[str
 		}
 		lo = math.Min(lo, qs[0])
 		hi = math.Max(hi, qs[len(qs)-1])
-		q.answers = append(q.answers, seedAnswer{expert: index[a.Expert], q: qs})
+		q.answers = append(q.answers, seedAnswer{expert: index[a.Expert], q: qs, bin: binOf(a.Quantiles, x)})
 	}
 	sort.Slice(q.answers, func(i, j int) bool { return q.answers[i].expert < q.answers[j].expert })
 	q.lo, q.hi = intrinsicRange(lo, hi, k)
@@ -512,7 +516,7 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 	}
 	for _, q := range s.questions {
 		for _, a := range q.answers {
-			counts[a.expert][binOf(a.q, q.realisation)]++
+			counts[a.expert][a.bin]++
 			info[a.expert] += information(a.q, s.binP, q.lo, q.hi)
 			out.Experts[a.expert].N++
 		}

@@ -228,3 +228,36 @@ func TestLogScaleLeaveOneOutIsTheUniformOnLogs(t *testing.T) {
 		}
 	}
 }
+
+// TestLogScaleKeepsEachTrueValueInItsBin: the log scale changes no
+// calibration score, since ln keeps every true value in its
+// inter-quantile bin, but in float64 ln can make a true value a double
+// above a quantile equal to it (ln 1e6 = ln 1000000.0000000001), which
+// moved it into the bin below. Bins are counted on the stated values.
+func TestLogScaleKeepsEachTrueValueInItsBin(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	above := math.Nextafter(1e6, 2e6)
+	if math.Log(above) != math.Log(1e6) {
+		t.Fatal("the logarithms no longer meet")
+	}
+	as := []SeedAssessment{
+		{Expert: "A", Question: "q", Probs: probs, Quantiles: []float64{1e5, 1e6, 1e7}},
+		{Expert: "B", Question: "q", Probs: probs, Quantiles: []float64{2e5, 5e5, 9e5}},
+		{Expert: "A", Question: "p", Probs: probs, Quantiles: []float64{1, 2, 3}},
+		{Expert: "B", Question: "p", Probs: probs, Quantiles: []float64{1.5, 2.5, 3.5}},
+	}
+	truth := map[string]float64{"q": above, "p": 2.2}
+	logged, err := ClassicalModel(as, truth, nil, ModelOptions{LogScale: map[string]bool{"q": true}})
+	if err != nil {
+		t.Fatal(err)
+	}
+	plain, err := ClassicalModel(as, truth, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i, e := range logged.Experts {
+		if e.Calibration != plain.Experts[i].Calibration {
+			t.Errorf("%s: calibration %v on the log scale, %v on the uniform", e.Expert, e.Calibration, plain.Experts[i].Calibration)
+		}
+	}
+}
