@@ -292,7 +292,12 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	value := f.Float("true_value")
 	if f.Error("true_value") == "" {
 		if err := q.CheckTrueValue(value); err != nil {
-			f.set("true_value", "must lie within the question's bounds, "+fv(q.Lower)+" to "+fv(q.Upper))
+			var ie *elicit.InputError
+			if errors.As(err, &ie) && ie.Rule == elicit.RuleLogScalePositive {
+				f.set("true_value", "must be above 0 while the question's information is scored on the log scale (set below)")
+			} else {
+				f.set("true_value", "must lie within the question's bounds, "+fv(q.Lower)+" to "+fv(q.Upper))
+			}
 		}
 	}
 	// A revealed value is visible to the experts, so changing it is

@@ -966,9 +966,13 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 		t.Error("the decision log does not record the scale")
 	}
 	// A true value of 0 cannot be taken on the log scale, nor the log
-	// scale with a true value of 0.
-	if res, body := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusUnprocessableEntity {
-		t.Errorf("a true value of 0 on the log scale: %d\n%s", res.StatusCode, body)
+	// scale with a true value of 0. The refusal says why: 0 is within the
+	// bounds, so "must lie within the question's bounds, 0 to 1" was
+	// false.
+	if res, body := h.post(seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusUnprocessableEntity ||
+		!hasFieldError(body, "true_value") || !strings.Contains(body, "must be above 0 while the question&#39;s information is scored on the log scale") ||
+		strings.Contains(body, "must lie within the question&#39;s bounds") {
+		t.Errorf("a true value of 0 on the log scale: %d\n%s", res.StatusCode, errorsOn(body))
 	}
 	q2 := p.seeds[1]
 	if res, _ := h.post(seedPath(p.ws.ID, q2.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusSeeOther {
