@@ -279,8 +279,8 @@ func BoundsShown(d ScaledBeta, shown []ShownPoint) (lower, upper bool) {
 // beyondDouble says which of the shown points lie nearer a bound than
 // a double holds beside that bound, so that the double is the bound
 // itself, and how far from the bound each really lies. On [0, 1] only a
-// point below the smallest normal double, or within 2⁻⁵³ of 1, is held
-// as the bound: for Beta(2e-4, 2e-4) the 5% point is about 1.0e-5000,
+// point below about 2.5e-324 (half the smallest subnormal double: 1e-315
+// is held as itself), or within about 1.1e-16 of 1, is held as the bound: for Beta(2e-4, 2e-4) the 5% point is about 1.0e-5000,
 // which a double holds only as 0, and the 95% point 1 − 1.0e-5000, held
 // as 1. On other bounds the bound's own size sets how near is too near:
 // on [10, 20] a 5% point 5e-18 above 10 is held as 10. Nothing shown may

@@ -158,3 +158,20 @@ func TestFitPointsBeyondDoubleAreSaid(t *testing.T) {
 		t.Errorf("an ordinary fit warns %q", m)
 	}
 }
+
+// TestSubnormalPointIsHeldAsItself: the warning goes with a point whose
+// double is the bound, not with every point below the smallest normal
+// double. Beta(0.01, 1) has I_x(0.01, 1) = x^0.01 (a closed form), so its
+// quantile at p = 10^(−3.15) is p^100 = 1e-315, a subnormal double that
+// is the value: written as such, and not warned of. (R 4.2.2's qbeta
+// stops at 5.6e-309 here.)
+func TestSubnormalPointIsHeldAsItself(t *testing.T) {
+	d := ScaledBeta{Beta: Beta{Alpha: 0.01, Beta: 1}, Lower: 0, Upper: 1}
+	p := math.Pow(10, -3.15)
+	if x := d.Quantile(p); math.Abs(x/1e-315-1) > 1e-6 {
+		t.Fatalf("quantile %v, want 1e-315", x)
+	}
+	if m, ok := beyondDouble(d, []ShownPoint{{P: p, X: d.Quantile(p)}}, "the "); ok {
+		t.Errorf("a subnormal point that is its value is warned of: %q", m)
+	}
+}
