@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 
@@ -176,6 +177,23 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.OnUnit())
 	if m, ok := beyondDouble(d, f.Shown(), "the fitted "); ok {
 		f.Warnings = append(f.Warnings, Warning{WarnBeyondDouble, m})
+	}
+	return f
+}
+
+// Refreshed is f with the warnings this version derives from a fit's
+// own points that a fit kept by an earlier version may lack: a point
+// written as a bound (WarnBeyondDouble). The store reads kept fits
+// through it, so a fit kept before the warning existed says what a fresh
+// fit of the same answer says.
+func (f Fit) Refreshed() Fit {
+	for _, w := range f.Warnings {
+		if w.Code == WarnBeyondDouble {
+			return f
+		}
+	}
+	if m, ok := beyondDouble(f.Dist, f.Shown(), "the fitted "); ok {
+		f.Warnings = append(slices.Clone(f.Warnings), Warning{WarnBeyondDouble, m})
 	}
 	return f
 }

@@ -93,3 +93,46 @@ func TestImportKeepsFits(t *testing.T) {
 		t.Fatalf("imported revisions %+v, want the fit %+v kept", rs, want)
 	}
 }
+
+// A fit kept by an earlier version lacks the warnings this version
+// derives from the fit's own points: 0.4, 0.5 and 0.9 at 10.00001, 10.1
+// and 16 days on [10, 20] fit a curve whose 5% point lies 5.0e-18 above
+// 10 and is written 10 (elicit.TestFitPointsBeyondDoubleAreSaid, R 4.2.2),
+// but a fit kept before beyond_double existed says nothing of it, and the
+// pages and the record read kept fits. It is read back with the warning.
+func TestKeptFitReadsWithTheWarningsOfThisVersion(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	q := workshop.Question{WorkshopID: p.w.ID, Wording: "How many days does a gasket swap take? (invented)", Quantity: "Swap time", Units: "days",
+		Lower: 10, Upper: 20, Format: workshop.FormatQuantiles, Probs: []float64{0.4, 0.5, 0.9}}
+	if err := db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	a := workshop.Answer{Values: []float64{10.00001, 10.1, 16}}
+	fit, err := q.Fit(a)
+	if err != nil {
+		t.Fatal(err)
+	}
+	old := fit
+	old.Warnings = nil
+	for _, w := range fit.Warnings {
+		if w.Code != elicit.WarnBeyondDouble {
+			old.Warnings = append(old.Warnings, w)
+		}
+	}
+	if len(old.Warnings) == len(fit.Warnings) {
+		t.Fatalf("the fit no longer warns beyond_double: %v", fit.Warnings)
+	}
+	r := workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[0].ID, Answer: a, Kept: &old}
+	if err := db.SaveRevision(ctx, &r); err != nil {
+		t.Fatal(err)
+	}
+	rs, err := db.QuestionExpertRevisions(ctx, q.ID, p.experts[0].ID)
+	if err != nil || len(rs) != 1 || rs[0].Kept == nil {
+		t.Fatalf("revisions %+v, %v", rs, err)
+	}
+	if !reflect.DeepEqual(rs[0].Kept.Warnings, fit.Warnings) {
+		t.Errorf("the kept fit reads back with warnings %v, want %v", rs[0].Kept.Warnings, fit.Warnings)
+	}
+}

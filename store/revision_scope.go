@@ -71,6 +71,9 @@ func scanRevisions(rows *sql.Rows, err error) ([]workshop.Revision, error) {
 			if err := decodeJSON(kept.String, &f); err != nil {
 				return nil, fmt.Errorf("store: revision %d: kept fit: %w", r.ID, err)
 			}
+			// A fit kept by an earlier version is read with the
+			// warnings this version derives from its points.
+			f = f.Refreshed()
 			r.Kept = &f
 		}
 		r.ReasonWithheld, r.Answer.Percent = withheld == 1, percent == 1
