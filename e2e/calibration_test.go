@@ -178,27 +178,27 @@ func TestCalibrationScaleFormInBrowser(t *testing.T) {
 		t.Fatalf("demo workshops %v, %v", wss, err)
 	}
 	page := site.URL + "/w/" + strconv.FormatInt(wss[0].ID, 10) + "/calibration"
-	form := `details.scale-choice form`
+	form := `details.background-choice form`
 	for _, width := range []int{1366, 390} {
 		fac.viewport(int64(width), 900, width < 500)
 		fac.open(page)
-		fac.do("open the scale choice", chromedp.Click(chromedp.CSS(`details.scale-choice summary`)))
-		fac.do("choose the log scale", chromedp.Click(chromedp.CSS(form+` input[name=scale][value=log]`)))
+		fac.do("open the scale choice", chromedp.Click(chromedp.CSS(`details.background-choice summary`)))
+		fac.do("choose the log scale", chromedp.Click(chromedp.CSS(form+` input[name=background][value=log-uniform]`)))
 		if st := fac.load("ask for the log scale without a reason", chromedp.Click(chromedp.CSS(form+` button[type=submit]`))); st != http.StatusUnprocessableEntity {
 			t.Fatalf("at %d px: the log scale without a reason answered %d", width, st)
 		}
-		if !eval[bool](fac, "form open", `document.querySelector("details.scale-choice[open] textarea[aria-invalid=true]") !== null`) {
+		if !eval[bool](fac, "form open", `document.querySelector("details.background-choice[open] textarea[aria-invalid=true]") !== null`) {
 			t.Errorf("at %d px the refused scale form is not shown open with its reason marked", width)
 		}
-		fac.sees("refused scale form", "Reason for changing the scale", "Nothing was saved")
+		fac.sees("refused scale form", "Reason (required to change the scale", "Nothing was saved")
 		checkLayout(t, fac, "calibration page, scale refused", ".chart-weight-map .chart-svg", width)
 		if axe != "" {
 			accessible(t, fac, axe, fmt.Sprintf("calibration page with the scale refused at %d px", width))
 		}
 		shots.take(fac, "calibration-scale-refused-"+strconv.Itoa(width))
 	}
-	fac.fill(`details.scale-choice[open] form`, "reason", "Arc faults per hour spread over orders of magnitude (invented).")
-	if st := fac.load("set the log scale", chromedp.Click(chromedp.CSS(`details.scale-choice[open] form button[type=submit]`))); st != http.StatusOK {
+	fac.fill(`details.background-choice[open] form`, "reason", "Arc faults per hour spread over orders of magnitude (invented).")
+	if st := fac.load("set the log scale", chromedp.Click(chromedp.CSS(`details.background-choice[open] form button[type=submit]`))); st != http.StatusOK {
 		t.Fatalf("set the log scale: %d", st)
 	}
 	fac.sees("calibration page", "Information scored on the log scale")

@@ -173,7 +173,7 @@ type SeedResult struct {
 	// LogScale says the question was scored against the log-uniform
 	// background: Lower and Upper are then exp of the range's ends on
 	// ln x, and the pool is uniform on ln x between its knots.
-	LogScale bool `json:"log_scale,omitempty"`
+	LogScale bool `json:"log_uniform_background,omitempty"`
 }
 
 // Scores is the outcome of the classical model. Experts and Questions are

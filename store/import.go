@@ -132,7 +132,7 @@ func (imp importer) question(workshopID int64, q workshop.Question) error {
 	}
 	id, err := imp.insert(
 		`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
-		 probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, retired, log_scale)
+		 probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, retired, log_uniform_background)
 		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		workshopID, q.Position, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
 		probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed),

@@ -13,7 +13,7 @@ import (
 )
 
 const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
-	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired, log_scale`
+	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired, log_uniform_background`
 
 // AddQuestion appends q to its workshop's questions, recording
 // EventQuestionAdded. It sets q's ID and Position.
@@ -175,7 +175,7 @@ func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason
 				return err
 			}
 		} else if !q.Calibration {
-			return &elicit.InputError{Field: "log_scale", Rule: elicit.RuleUnknown,
+			return &elicit.InputError{Field: "log_uniform_background", Rule: elicit.RuleUnknown,
 				Detail: fmt.Sprintf("question %d is not a calibration question", questionID)}
 		}
 		if q.LogScale == on {
@@ -184,10 +184,10 @@ func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason
 		if reason == "" {
 			return &elicit.InputError{Field: "reason", Rule: elicit.RuleRequired, Detail: "a change of how a question is scored needs a reason"}
 		}
-		if _, err := tx.ExecContext(ctx, `UPDATE questions SET log_scale = ? WHERE id = ?`, boolInt(on), questionID); err != nil {
+		if _, err := tx.ExecContext(ctx, `UPDATE questions SET log_uniform_background = ? WHERE id = ?`, boolInt(on), questionID); err != nil {
 			return fmt.Errorf("store: set log scale: %w", err)
 		}
-		detail, _ := json.Marshal(map[string]bool{"log_scale": on})
+		detail, _ := json.Marshal(map[string]bool{"log_uniform_background": on})
 		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventScaleSet,
 			At: now(), Reason: reason, Detail: string(detail),

@@ -31,7 +31,7 @@ func (s *Server) calibrationRoutes(r chi.Router) {
 	r.Get("/calibration", s.calibrationPage)
 	r.Get("/calibration.csv", s.calibrationCSV)
 	r.Post("/calibration/q/{question}", s.setTrueValue)
-	r.Post("/calibration/q/{question}/scale", s.setScale)
+	r.Post("/calibration/q/{question}/background", s.setScale)
 	r.Post("/calibration/weights", s.setCalibrationWeights)
 }
 
@@ -187,7 +187,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 			continue
 		}
 		row := seedRow{Question: q, Form: newForm(nil), ScaleForm: newForm(nil)}
-		row.ScaleForm.Values.Set("scale", scaleValue(q.LogScale))
+		row.ScaleForm.Values.Set("background", scaleValue(q.LogScale))
 		if forms.scale != nil && forms.scaleFor == q.ID {
 			row.ScaleForm = forms.scale
 		}
@@ -325,7 +325,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 // Scale values of the calibration page's scale form.
 const (
 	scaleUniform = "uniform"
-	scaleLog     = "log"
+	scaleLog     = "log-uniform"
 )
 
 func scaleValue(log bool) string {
@@ -345,16 +345,16 @@ func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	var on bool
-	switch f.Value("scale") {
+	switch f.Value("background") {
 	case scaleUniform:
 	case scaleLog:
 		on = true
 	default:
-		f.set("scale", "choose the uniform or the log scale")
+		f.set("background", "choose the uniform or the log-uniform background")
 	}
-	if f.Error("scale") == "" && on {
+	if f.Error("background") == "" && on {
 		if err := q.CheckLogScale(); err != nil {
-			f.set("scale", logScaleRefusal(q))
+			f.set("background", logScaleRefusal(q))
 		}
 	}
 	reason := f.Text("reason", input.MaxLongText, on != q.LogScale)

@@ -901,7 +901,7 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 	ctx := context.Background()
 	p.enterTruths(t, false)
 	q := p.seeds[0]
-	scalePath := seedPath(p.ws.ID, q.ID) + "/scale"
+	scalePath := seedPath(p.ws.ID, q.ID) + "/background"
 	stored := func() bool {
 		t.Helper()
 		got, err := h.db.Question(ctx, q.ID)
@@ -914,8 +914,8 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 		name, field, want string
 		form              url.Values
 	}{
-		{"no reason", "reason", "", url.Values{"scale": {"log"}}},
-		{"no such scale", "scale", "choose the uniform or the log scale", url.Values{"scale": {"sideways"}, "reason": {"r"}}},
+		{"no reason", "reason", "", url.Values{"background": {"log-uniform"}}},
+		{"no such background", "background", "choose the uniform or the log-uniform background", url.Values{"background": {"sideways"}, "reason": {"r"}}},
 	} {
 		before := h.counts(p.ws.ID)
 		res, body := h.post(scalePath, c.form)
@@ -926,7 +926,7 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 			t.Fatalf("%s: something was saved", c.name)
 		}
 	}
-	res, body := h.post(scalePath, url.Values{"scale": {"log"}, "reason": {"The seed share spreads over orders of magnitude (invented)."}})
+	res, body := h.post(scalePath, url.Values{"background": {"log-uniform"}, "reason": {"The seed share spreads over orders of magnitude (invented)."}})
 	if res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("set the log scale: %d\n%s", res.StatusCode, body)
 	}
@@ -978,7 +978,7 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 	if res, _ := h.post(seedPath(p.ws.ID, q2.ID), url.Values{"true_value": {"0"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("a true value of 0 on the uniform scale: %d", res.StatusCode)
 	}
-	res, body = h.post(seedPath(p.ws.ID, q2.ID)+"/scale", url.Values{"scale": {"log"}, "reason": {"r"}})
+	res, body = h.post(seedPath(p.ws.ID, q2.ID)+"/background", url.Values{"background": {"log-uniform"}, "reason": {"r"}})
 	if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "the log scale needs values above 0, and this question&#39;s true value is 0") {
 		t.Errorf("the log scale with a true value of 0: %d\n%s", res.StatusCode, body)
 	}
@@ -1017,7 +1017,7 @@ func TestCalibrationQuestionOnTheLogScale(t *testing.T) {
 // the log scale cannot take (a lower bound below 0, or the question no
 // longer a calibration question) is refused naming the field the
 // facilitator changed, in words that say where the scale is set, not as
-// "log_scale: unknown value", a field the correction's form does not
+// "log_uniform_background: unknown value", a field the correction's form does not
 // have. Nothing is saved.
 func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 	p := newSeedPanel(t)
@@ -1028,7 +1028,7 @@ func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 	if err := h.db.AddQuestion(ctx, &q); err != nil {
 		t.Fatal(err)
 	}
-	if res, _ := h.post(seedPath(p.ws.ID, q.ID)+"/scale", url.Values{"scale": {"log"}, "reason": {"Spread over orders of magnitude (invented)."}}); res.StatusCode != http.StatusSeeOther {
+	if res, _ := h.post(seedPath(p.ws.ID, q.ID)+"/background", url.Values{"background": {"log-uniform"}, "reason": {"Spread over orders of magnitude (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("set the log scale: %d", res.StatusCode)
 	}
 	form := func(lower string, calibration bool) url.Values {
@@ -1051,7 +1051,7 @@ func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 	} {
 		before := h.counts(p.ws.ID)
 		res, body := h.post(questionPath(p.ws.ID, q.ID)+"/edit", c.form)
-		if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, c.want) || strings.Contains(body, "log_scale") ||
+		if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, c.want) || strings.Contains(body, "log_uniform_background") ||
 			!strings.Contains(body, "calibration page") || c.field != "" && !hasFieldError(body, c.field) {
 			t.Errorf("%s: %d, want field %q marked with %q:\n%s", c.name, res.StatusCode, c.field, c.want, errorsOn(body))
 		}

@@ -142,7 +142,7 @@ type eventDetail struct {
 	Rows    []int            `json:"rows"`
 	Channel workshop.Channel `json:"channel"`
 	// A calibration question's scale (workshop.EventScaleSet).
-	LogScale *bool `json:"log_scale"`
+	LogScale *bool `json:"log_uniform_background"`
 }
 
 // eventWriter turns events into sentences; it remembers which questions'

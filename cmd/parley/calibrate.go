@@ -23,7 +23,7 @@ func init() {
 
 func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("calibrate", stderr)
-	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95, optionally lower,upper after realization and scale (uniform or log) before the quantiles (- for standard input)")
+	input := fs.String("input", "", "CSV `file` with header expert,question,realization,q05,q50,q95, optionally lower,upper after realization and background (uniform or log-uniform) before the quantiles (- for standard input)")
 	alpha := fs.String("alpha", "", "fixed calibration cut-off in [0, 1] (default: the one that maximises the performance-weighted pool's score as if it were an expert)")
 	overshoot := fs.String("overshoot", "", "widening k of each question's intrinsic range (default 0.1)")
 	format := fs.String("format", "text", "text or json")
@@ -168,11 +168,12 @@ var seedHeader = []string{"expert", "question", "realization"}
 // page, so the same answers score the same here and there.
 var boundColumns = []string{"lower", "upper"}
 
-// scaleColumn may stand right before the quantile columns: "log" scores
+// scaleColumn may stand right before the quantile columns: "log-uniform" scores
 // a question's information against the log-uniform background
 // (elicit.ModelOptions.LogScale), for quantities spread over orders of
-// magnitude; "uniform" or empty against the uniform, as the page does.
-const scaleColumn = "scale"
+// magnitude; "uniform" or empty against the uniform, as the page does by
+// default. Named for the classical model's background measure.
+const scaleColumn = "background"
 
 // readSeedCSV reads a calibration CSV: a header expert,question,
 // realization, optionally lower,upper, followed by quantile columns qNN in
@@ -331,8 +332,8 @@ const ruleSameBounds elicit.Rule = "must be the same on every row of the questio
 // ruleSameScale is broken when rows of one question give different scales.
 const ruleSameScale elicit.Rule = "must be the same on every row of the question (empty is uniform)"
 
-// ruleScaleWord is broken by a scale cell other than uniform, log or empty.
-const ruleScaleWord elicit.Rule = "must be uniform or log (empty is uniform)"
+// ruleScaleWord is broken by a background cell other than uniform, log-uniform or empty.
+const ruleScaleWord elicit.Rule = "must be uniform or log-uniform (empty is uniform)"
 
 // seedScale reads a row's scale cell, and holds a row on the log scale
 // to elicit.RuleLogScalePositive here, where the message can name the
@@ -341,7 +342,7 @@ func seedScale(field func(string) string, cell string, x float64, b [2]float64, 
 	switch strings.ToLower(cell) {
 	case "", "uniform":
 		return false, nil
-	case "log":
+	case "log-uniform":
 	default:
 		return false, &elicit.InputError{Field: field(scaleColumn), Rule: ruleScaleWord, Detail: fmt.Sprintf("got %q", input.Clip(cell, 40))}
 	}
@@ -362,7 +363,7 @@ func seedScale(field func(string) string, cell string, x float64, b [2]float64, 
 // scaleWord names a scale in a message.
 func scaleWord(log bool) string {
 	if log {
-		return "log"
+		return "log-uniform"
 	}
 	return "uniform"
 }
@@ -474,7 +475,7 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	return cols, probs, nil
 }
 
-const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization, then scale; other qNN columns allowed, increasing)"
+const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization, then background; other qNN columns allowed, increasing)"
 
 // renameQuantiles turns a quantiles[j] field into the CSV column name, and
 // prefixes the row.
@@ -595,7 +596,7 @@ func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport, s elicit.Scores) 
 	logNote := ""
 	for _, c := range s.Questions {
 		if c.LogScale {
-			logNote = "; on the log scale, of ln x against its intrinsic range on ln x"
+			logNote = "; against the log-uniform background, of ln x against its intrinsic range on ln x"
 		}
 	}
 	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range%s): %.4g\n\n", logNote, r.MaxShift)

@@ -177,7 +177,7 @@ func TestCalibrateExtraQuantiles(t *testing.T) {
 func TestCalibrateBadInput(t *testing.T) {
 	const head = "expert,question,realization,q05,q50,q95\n"
 	const boundsHead = "expert,question,realization,lower,upper,q05,q50,q95\n"
-	const scaleHead = "expert,question,realization,lower,upper,scale,q05,q50,q95\n"
+	const scaleHead = "expert,question,realization,lower,upper,background,q05,q50,q95\n"
 	const adjacent = "A,q1,5,5,5.000000000000001,5.000000000000002\nB,q1,5,5,5.000000000000001,5.000000000000002\n"
 	for _, c := range []struct {
 		name string
@@ -233,11 +233,11 @@ func TestCalibrateBadInput(t *testing.T) {
 		{"bounds dropped on one row", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,,,0.5,1,2\n", nil, []string{"row 3: lower, upper", "no bounds here, [0, 9] on row 2"}},
 		// A question on the log scale: its values above 0, its lower bound
 		// at least 0, one scale on every row; the word is uniform or log.
-		{"scale word", scaleHead + "A,s1,1,0,9,logarithmic,0.5,1,2\n", nil, []string{"row 2: scale", string(ruleScaleWord), `"logarithmic"`}},
-		{"log realization at 0", scaleHead + "A,s1,0,0,9,log,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleLogScalePositive)}},
-		{"log lower bound below 0", scaleHead + "A,s1,1,-1,9,log,0.5,1,2\n", nil, []string{"row 2: lower", string(elicit.RuleLogScalePositive)}},
-		{"log quantile below 0", "expert,question,realization,scale,q05,q50,q95\nA,s1,1,log,-0.5,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleLogScalePositive)}},
-		{"scales differ", scaleHead + "A,s1,1,0,9,log,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: scale", string(ruleSameScale), "uniform here, log on row 2"}},
+		{"scale word", scaleHead + "A,s1,1,0,9,logarithmic,0.5,1,2\n", nil, []string{"row 2: background", string(ruleScaleWord), `"logarithmic"`}},
+		{"log realization at 0", scaleHead + "A,s1,0,0,9,log-uniform,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleLogScalePositive)}},
+		{"log lower bound below 0", scaleHead + "A,s1,1,-1,9,log-uniform,0.5,1,2\n", nil, []string{"row 2: lower", string(elicit.RuleLogScalePositive)}},
+		{"log quantile below 0", "expert,question,realization,background,q05,q50,q95\nA,s1,1,log-uniform,-0.5,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleLogScalePositive)}},
+		{"scales differ", scaleHead + "A,s1,1,0,9,log-uniform,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: background", string(ruleSameScale), "uniform here, log-uniform on row 2"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -596,8 +596,8 @@ func TestCalibrationPageCSVScoresTheSame(t *testing.T) {
 		if !strings.Contains(file.String(), ",lower,upper,") {
 			t.Fatalf("%s: no bound columns in\n%s", c.name, file.String())
 		}
-		if scaled := strings.Contains(file.String(), ",upper,scale,"); scaled != (c.name == "a question on the log scale") ||
-			scaled && !strings.Contains(file.String(), ",log,") {
+		if scaled := strings.Contains(file.String(), ",upper,background,"); scaled != (c.name == "a question on the log scale") ||
+			scaled && !strings.Contains(file.String(), ",log-uniform,") {
 			t.Fatalf("%s: the scale column is wrong in\n%s", c.name, file.String())
 		}
 		args := []string{"calibrate", "--input", "-", "--format", "json"}
@@ -723,7 +723,7 @@ func manySeedsCSV(t *testing.T) string {
 	return path
 }
 
-// TestCalibrateLogScale: a question whose scale cell is "log" is scored
+// TestCalibrateLogScale: a question whose background cell is "log-uniform" is scored
 // against the log-uniform background. inverter_seeds_log.csv (invented)
 // has four rare-event shares spread over orders of magnitude on the log
 // scale: the calibration scores are those of the same answers on the
@@ -740,7 +740,7 @@ func TestCalibrateLogScale(t *testing.T) {
 		t.Fatal(err)
 	}
 	uniform := filepath.Join(t.TempDir(), "uniform.csv")
-	if err := os.WriteFile(uniform, bytes.ReplaceAll(raw, []byte(",log,"), []byte(",uniform,")), 0o644); err != nil {
+	if err := os.WriteFile(uniform, bytes.ReplaceAll(raw, []byte(",log-uniform,"), []byte(",uniform,")), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	logged, plain := runCalibrateJSON(t, "--input", file), runCalibrateJSON(t, "--input", uniform)
@@ -765,7 +765,7 @@ func TestCalibrateLogScale(t *testing.T) {
 	for _, q := range got.Questions {
 		rare := strings.HasSuffix(q.Question, "_share") || strings.HasSuffix(q.Question, "_per_hour")
 		if q.LogScale != rare {
-			t.Errorf("%s: log_scale %v", q.Question, q.LogScale)
+			t.Errorf("%s: log_uniform_background %v", q.Question, q.LogScale)
 		}
 		if !q.LogScale {
 			continue
@@ -796,7 +796,7 @@ func TestCalibrateLogScale(t *testing.T) {
 	}
 	code, out, _ = runCLI(t, "", "calibrate", "--input", file, "--leave-one-out")
 	if code != 0 || !strings.Contains(out, "Information against the log-uniform background (range and overshoot on ln x): arc_fault_rate_per_hour, connector_melt_share, firmware_bricked_share, surge_damage_share") ||
-		!strings.Contains(out, "else its intrinsic range; on the log scale, of ln x against its intrinsic range on ln x)") {
+		!strings.Contains(out, "else its intrinsic range; against the log-uniform background, of ln x against its intrinsic range on ln x)") {
 		t.Errorf("text output:\n%s", out)
 	}
 }

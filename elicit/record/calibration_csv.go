@@ -30,7 +30,7 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 	header := []string{"expert", "question", "realization", "lower", "upper"}
 	scaled := len(set.LogScale) > 0
 	if scaled {
-		header = append(header, "scale")
+		header = append(header, "background")
 	}
 	for _, p := range set.Probs {
 		c, err := quantileColumn(p)
@@ -84,7 +84,7 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 		if scaled {
 			scale := "uniform"
 			if set.LogScale[a.Question] {
-				scale = "log"
+				scale = "log-uniform"
 			}
 			row = append(row, scale)
 		}

@@ -54,7 +54,7 @@ type BasisQuestion struct {
 	Upper             float64  `json:"upper"`
 	// LogScale: the question's information was scored against the
 	// log-uniform background (Question.LogScale).
-	LogScale bool `json:"log_scale,omitempty"`
+	LogScale bool `json:"log_uniform_background,omitempty"`
 }
 
 // BasisAnswer is one calibration answer a WeightBasis scored: the

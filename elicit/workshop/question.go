@@ -151,16 +151,16 @@ func (q Question) CheckTrueValue(t float64) error {
 // CheckLogScale checks that q may be scored on the log scale
 // (LogScale): a calibration question whose lower bound is at least 0, so
 // that every answer, strictly inside the bounds, is above 0, and whose
-// true value, when entered, is above 0. Errors name "log_scale".
+// true value, when entered, is above 0. Errors name "log_uniform_background".
 func (q Question) CheckLogScale() error {
 	if !q.Calibration {
-		return inputErr("log_scale", elicit.RuleUnknown, "question %d is not a calibration question", q.ID)
+		return inputErr("log_uniform_background", elicit.RuleUnknown, "question %d is not a calibration question", q.ID)
 	}
 	if !(q.Lower >= 0) {
-		return inputErr("log_scale", elicit.RuleLogScalePositive, "the lower bound is %v", q.Lower)
+		return inputErr("log_uniform_background", elicit.RuleLogScalePositive, "the lower bound is %v", q.Lower)
 	}
 	if q.TrueValue != nil && !(*q.TrueValue > 0) {
-		return inputErr("log_scale", elicit.RuleLogScalePositive, "the true value is %v", *q.TrueValue)
+		return inputErr("log_uniform_background", elicit.RuleLogScalePositive, "the true value is %v", *q.TrueValue)
 	}
 	return nil
 }

@@ -79,7 +79,7 @@ type Question struct {
 	// against the log-uniform background (elicit.ModelOptions.LogScale),
 	// for a quantity spread over orders of magnitude; CheckLogScale holds
 	// it to values above 0.
-	LogScale bool `json:"log_scale,omitempty"`
+	LogScale bool `json:"log_uniform_background,omitempty"`
 }
 
 // Frozen reports whether the question takes no more answers: a
@@ -237,9 +237,9 @@ const (
 	EventWorkshopEdited   EventKind = "workshop_edited"     // detail: the fields before and after
 	EventTruthEntered     EventKind = "truth_entered"       // a true value entered or changed, still hidden
 	EventDataRecorded     EventKind = "study_data_recorded" // observed data recorded against a question's agreed prior
-	// A calibration question's background measure set (uniform or log);
-	// detail: {"log_scale": bool}.
-	EventScaleSet EventKind = "calibration_scale_set"
+	// A calibration question's background measure set (uniform or log-uniform);
+	// detail: {"log_uniform_background": bool}.
+	EventScaleSet EventKind = "calibration_background_set"
 	// An answer sheet's judgements saved together; detail: SheetImport.
 	EventAnswersImported EventKind = "answers_imported"
 )

@@ -21,14 +21,14 @@ The model follows Cooke (1991), Experts in Uncertainty, ch. 12:
     with those weights and is scored like an expert from its quantiles;
   - alpha, unless fixed, is the candidate among the experts' calibration
     scores that maximises the pool's C * I (ties to the smaller alpha);
-  - a question whose `scale` cell is "log" is scored against the
+  - a question whose `background` cell is "log-uniform" is scored against the
     log-uniform background: every value (quantiles, realisation, bounds) is
     replaced by its natural logarithm before any of the above, so the
     intrinsic range, its widening and the minimal-information distributions
     are uniform in ln x; a lower bound of 0 becomes -inf and cuts nothing.
 
 Reads the calibration CSVs named in FILES (header expert,question,
-realization, optionally lower,upper, optionally scale, then qNN columns;
+realization, optionally lower,upper, optionally background, then qNN columns;
 # comments).
 
 Columns: file,alpha_mode,who,calibration,information,weight
@@ -58,7 +58,7 @@ def load(path):
     hdr = [h.strip().lower() for h in next(rd)]
     has_bounds = hdr[3:5] == ["lower", "upper"]
     first = 5 if has_bounds else 3
-    has_scale = hdr[first] == "scale"
+    has_scale = hdr[first] == "background"
     if has_scale:
         first += 1
     probs = [float("0." + c[1:]) for c in hdr[first:]]
@@ -66,7 +66,7 @@ def load(path):
     for r in rd:
         if not r:
             continue
-        log = has_scale and r[first - 1].strip().lower() == "log"
+        log = has_scale and r[first - 1].strip().lower() == "log-uniform"
         ln = (lambda v: math.log(v) if v > 0 else -math.inf) if log else (lambda v: v)
         e, q, x = r[0].strip(), r[1].strip(), float(r[2])
         data[(e, q)] = [ln(float(v)) for v in r[first:]]
