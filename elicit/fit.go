@@ -26,6 +26,15 @@ const PoorFitThreshold = 0.05
 // person could mean (common practice, no source for its size).
 func PoorFit(gap float64) bool { return gap > PoorFitThreshold+1e-12 }
 
+// GapText writes a largest probability gap (a fit's, or a single Beta's
+// from its pool) to four significant figures, as the pages write every
+// other gap beside it, or as many more as it takes to read on its own
+// side of PoorFitThreshold: a warning that said 0.127 under a line that
+// said 0.1271 gave one distance two values.
+func GapText(gap float64) string {
+	return strconv.FormatFloat(gap, 'g', SideDigits(gap, PoorFitThreshold, 4), 64)
+}
+
 // A stated outer point, one whose tail chance min(p, 1 − p) is at most
 // TailPointMax, is reported as missed (WarnTailMisfit) when the fitted
 // Beta's chance beyond it is more than TailRatioLimit times the stated
@@ -268,7 +277,7 @@ func fitWarnings(d Beta, maxErr float64, proportion bool) []Warning {
 	if PoorFit(maxErr) {
 		w = append(w, Warning{WarnPoorFit, fmt.Sprintf(
 			"The fitted Beta misses one of the stated probabilities by %s (more than %.2f): no single Beta matches these answers well. Show the expert the fit and ask whether they want to revise.",
-			strconv.FormatFloat(maxErr, 'g', SideDigits(maxErr, PoorFitThreshold, 3), 64), PoorFitThreshold)})
+			GapText(maxErr), PoorFitThreshold)})
 	}
 	if ess := a + b; ess > NearCertaintyESS {
 		w = append(w, Warning{WarnNearCertainty, "The fitted prior " + weightWords(ess, proportion) + ": it implies near-certainty about the value. Check that the expert really is this sure."})

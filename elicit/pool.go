@@ -3,7 +3,6 @@ package elicit
 import (
 	"fmt"
 	"math"
-	"strconv"
 )
 
 // RuleSameBounds is broken when the experts' distributions to be pooled
@@ -710,7 +709,7 @@ func (r Representation) representationWarnings() []string {
 	cdf, sd, interval := r.Far()
 	if cdf {
 		w = append(w, fmt.Sprintf("The single Beta is far from the pool: their CDFs differ by up to %s (more than %.2g). Report the pool itself or agree a consensus judgement.",
-			strconv.FormatFloat(r.MaxCDFError, 'g', SideDigits(r.MaxCDFError, PoorFitThreshold, 3), 64), PoorFitThreshold))
+			GapText(r.MaxCDFError), PoorFitThreshold))
 	}
 	if sd {
 		w = append(w, fmt.Sprintf("The single Beta's standard deviation is %.3g times the pool's (outside %.3g to %.3g): it misstates how uncertain the panel is.", r.SDRatio, 1/SpreadRatioLimit, SpreadRatioLimit))

@@ -71,7 +71,7 @@ func singleBetaGap(gap float64) string {
 	if gap == 0 {
 		return "The single Beta is the pool itself: every pooled expert's fit is this one Beta."
 	}
-	return "The single Beta's CDF is at most " + fv(gap) + " (in probability) away from the pool's. " +
+	return "The single Beta's CDF is at most " + elicit.GapText(gap) + " (in probability) away from the pool's. " +
 		"A mixture of very different experts can be far from any one Beta: look at the picture before agreeing it."
 }
 

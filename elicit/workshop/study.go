@@ -167,7 +167,7 @@ func StandInCaveat(name string, r elicit.Representation) string {
 	cdf, sd, interval := r.Far()
 	var how []string
 	if cdf {
-		how = append(how, fmt.Sprintf("their CDFs differ by up to %.3g", r.MaxCDFError))
+		how = append(how, "their CDFs differ by up to "+elicit.GapText(r.MaxCDFError))
 	}
 	if sd {
 		how = append(how, fmt.Sprintf("its standard deviation is %.3g times the pool's", r.SDRatio))

@@ -1,0 +1,52 @@
+package web
+
+import (
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// The tests here come from walking the invented demo as its users would:
+// an expert on a phone, the facilitator at a projector. Each checks the
+// words or the figures of one thing that read badly on the demo's pages.
+
+// figuresAfter returns the number written after each lead on body, in
+// order.
+func figuresAfter(t *testing.T, body string, leads ...string) []string {
+	t.Helper()
+	var out []string
+	for _, lead := range leads {
+		m := regexp.MustCompile(regexp.QuoteMeta(lead) + `([0-9][0-9.e-]*[0-9])`).FindStringSubmatch(body)
+		if m == nil {
+			t.Fatalf("the page has no number after %q", lead)
+		}
+		out = append(out, m[1])
+	}
+	return out
+}
+
+// TestSingleBetaGapReadsTheSameTwice: the demo's question 1 panel says
+// how far the pool's single Beta is from the pool twice, in the pool's
+// hint and in the warning under it. It wrote "at most 0.1271" above
+// "differ by up to 0.127": one distance, two numbers, and a facilitator
+// asks which one is right. Both carry the four figures every other
+// probability gap on the panel carries (an expert's "largest probability
+// gap", the agreed prior's).
+func TestSingleBetaGapReadsTheSameTwice(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10))
+	got := figuresAfter(t, body, "The single Beta&#39;s CDF is at most ", "their CDFs differ by up to ")
+	if got[0] != got[1] {
+		t.Errorf("the panel writes the single Beta's distance from the pool as %s and as %s", got[0], got[1])
+	}
+	if n := len(strings.TrimLeft(strings.ReplaceAll(got[1], "0.", ""), "0")); n != 4 {
+		t.Errorf("the warning writes the distance as %s, not to four figures", got[1])
+	}
+	// The study page's caveat on planning under the pool names the same
+	// distance.
+	_, study := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study")
+	if s := figuresAfter(t, study, "their CDFs differ by up to "); s[0] != got[0] {
+		t.Errorf("the study page writes the distance as %s, the panel as %s", s[0], got[0])
+	}
+}
