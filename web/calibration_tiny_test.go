@@ -61,7 +61,7 @@ func TestScoresBelowTheDoubleRangeAreWritten(t *testing.T) {
 	if err := chart.Scores(scoresPicture("m", experts, sc.Pooled, sc.Alpha, sc.LogAlpha)).Render(context.Background(), &b); err != nil {
 		t.Fatal(err)
 	}
-	for _, want := range []string{"cut-off α = 7.88e-509", "A: calibration 7.88e-509", "B: calibration 3.32e-516"} {
+	for _, want := range []string{"cut-off α = 7.878e-509", "A: calibration 7.878e-509", "B: calibration 3.318e-516"} {
 		if !strings.Contains(b.String(), want) {
 			t.Errorf("weight map lacks %q", want)
 		}

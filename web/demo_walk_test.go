@@ -50,3 +50,30 @@ func TestSingleBetaGapReadsTheSameTwice(t *testing.T) {
 		t.Errorf("the study page writes the distance as %s, the panel as %s", s[0], got[0])
 	}
 }
+
+// TestWeightMapWritesTheTablesScores: on the demo's calibration page the
+// weight map's words said "cut-off α = 0.839" and "Ines Varga:
+// calibration 0.839, information 0.208" just above a table and a sentence
+// that say 0.8392 and 0.2078. The map now writes each expert's scores,
+// and the cut-off, with the table's figures.
+func TestWeightMapWritesTheTablesScores(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	_, body := h.get(calibrationPath(ws.ID))
+	row := regexp.MustCompile(`<th scope="row">([^<]+)</th>\s*<td class="num" data-label="answered">\d+</td>\s*<td class="num" data-label="calibration">([^<]+)</td>\s*<td class="num" data-label="information">([^<]+)</td>`)
+	rows := row.FindAllStringSubmatch(body, -1)
+	if len(rows) != len(es) {
+		t.Fatalf("the scores table has %d expert rows, want %d", len(rows), len(es))
+	}
+	for _, r := range rows {
+		want := r[1] + ": calibration " + r[2] + ", information " + r[3] + ","
+		if !strings.Contains(body, want) {
+			t.Errorf("the weight map's words lack %q, the table's scores", want)
+		}
+	}
+	alpha := figuresAfter(t, body, "Cut-off α = ")[0]
+	for _, want := range []string{"cut-off α = " + alpha + "<", "Experts left of the cut-off α = " + alpha + " get weight 0"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the weight map lacks %q, the cut-off the sentence under it gives", want)
+		}
+	}
+}

@@ -204,24 +204,24 @@ func newScoresModel(v ScoresView) scoresModel {
 	// The cut-off and the scores below it are written with the figures
 	// that keep each on its own side of the other: a cut-off fixed at a
 	// score as the page shows it (0.1878 for 0.187753) lies above it.
-	alphaDigits := 3
+	alphaDigits := scoreFigures
 	for _, r := range rows {
 		if r.Calibration < alpha {
-			alphaDigits = max(alphaDigits, elicit.SideDigits(alpha, r.Calibration, 3))
+			alphaDigits = max(alphaDigits, elicit.SideDigits(alpha, r.Calibration, scoreFigures))
 		}
 	}
 	alphaText := formatSig(alpha, alphaDigits)
 	cutting := alpha > 0
 	if v.LogAlpha != nil {
-		alphaText, cutting = elicit.FormatExp(*v.LogAlpha, 3), true
+		alphaText, cutting = elicit.FormatExp(*v.LogAlpha, scoreFigures), true
 	}
 	scoreText := func(r ScoreRow) string {
 		if elicit.BelowDouble(r.Calibration, r.LogCalibration) {
-			return elicit.FormatExp(r.LogCalibration, 3)
+			return elicit.FormatExp(r.LogCalibration, scoreFigures)
 		}
 		c := r.Calibration
 		if c < alpha {
-			return formatSig(c, elicit.SideDigits(c, alpha, 3))
+			return formatSig(c, elicit.SideDigits(c, alpha, scoreFigures))
 		}
 		return formatScore(c)
 	}
@@ -311,7 +311,7 @@ func newScoresModel(v ScoresView) scoresModel {
 	var words []string
 	for _, r := range rows {
 		words = append(words, fmt.Sprintf("%s: calibration %s, information %s, weight %s", r.Expert,
-			scoreText(r), formatSig(r.Information, 3), FormatPercent(r.Weight)))
+			scoreText(r), formatSig(r.Information, scoreFigures), FormatPercent(r.Weight)))
 	}
 	m.Title = "Who earns weight: calibration against information"
 	cut := fmt.Sprintf("Experts left of the cut-off α = %s get weight 0", alphaText)
@@ -324,10 +324,10 @@ func newScoresModel(v ScoresView) scoresModel {
 	if pooled != nil {
 		poolText := formatScore(pooled.Calibration)
 		if elicit.BelowDouble(pooled.Calibration, pooled.LogCalibration) {
-			poolText = elicit.FormatExp(pooled.LogCalibration, 3)
+			poolText = elicit.FormatExp(pooled.LogCalibration, scoreFigures)
 		}
 		m.Desc += fmt.Sprintf(" The diamond is the performance-weighted pool scored as if it were an expert: calibration %s, information %s.",
-			poolText, formatSig(pooled.Information, 3))
+			poolText, formatSig(pooled.Information, scoreFigures))
 	}
 	return m
 }
@@ -397,5 +397,11 @@ func decadeLabel(e float64) string {
 	return fmt.Sprintf("1e%d", int(e))
 }
 
+// scoreFigures is the significant figures of the map's scores and
+// cut-off: the page's table and sentences under the map write them with
+// four (FormatValue), and a caption of "calibration 0.839" over a table
+// of 0.8392 gave one score two values.
+const scoreFigures = 4
+
 // formatScore writes a calibration score, which may be tiny.
-func formatScore(v float64) string { return formatSig(v, 3) }
+func formatScore(v float64) string { return formatSig(v, scoreFigures) }

@@ -182,25 +182,26 @@ func TestSteadinessDrawsEachRerun(t *testing.T) {
 
 // A cut-off fixed at a score as the page writes it (0.1878 for 0.187753)
 // lies above that score, and the picture's words must keep the score
-// below it: "cut-off α = 0.188" beside "calibration 0.188, weight 0%"
-// contradicted itself (elicit.SideDigits).
+// below it: "cut-off α = 0.1878" beside "calibration 0.1878, weight 0%"
+// would contradict itself (elicit.SideDigits). The words write the
+// table's four figures (TestWeightMapWritesTheTablesScores in web).
 func TestWeightMapWordsKeepScoresBelowTheCutOff(t *testing.T) {
 	v := ScoresView{Alpha: 0.1878, Rows: []ScoreRow{
 		{Expert: "Expert A", Calibration: 0.8392, Information: 0.2, Weight: 1},
 		{Expert: "Expert B", Calibration: 0.187753, Information: 0.15, Weight: 0},
 	}}
 	html := render(t, Scores(v))
-	for _, want := range []string{"α = 0.188 get weight 0", "Expert B: calibration 0.18775, information 0.15, weight 0%", "Expert A: calibration 0.839,"} {
+	for _, want := range []string{"α = 0.1878 get weight 0", "Expert B: calibration 0.18775, information 0.15, weight 0%", "Expert A: calibration 0.8392,"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("the weight map's words lack %q", want)
 		}
 	}
 	// The cut-off too takes the figures that keep it above the score
-	// below it: 0.1874 and 0.1872 both read 0.187 to three figures; the
-	// cut-off is 0.1874, the score 0.187.
-	v.Alpha, v.Rows[1].Calibration = 0.1874, 0.1872
+	// below it: 0.18744 and 0.18741 both read 0.1874 to four figures; the
+	// cut-off is 0.18744, the score 0.1874.
+	v.Alpha, v.Rows[1].Calibration = 0.18744, 0.18741
 	html = render(t, Scores(v))
-	for _, want := range []string{"cut-off α = 0.1874", "α = 0.1874 get weight 0", "Expert B: calibration 0.187,"} {
+	for _, want := range []string{"cut-off α = 0.18744", "α = 0.18744 get weight 0", "Expert B: calibration 0.1874,"} {
 		if !strings.Contains(html, want) {
 			t.Errorf("the weight map's words lack %q", want)
 		}
