@@ -175,7 +175,9 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 		"(%s to %s, median %s). At the right, the largest move of any of the three points, as a fraction of the question's range.",
 		t.Title, FormatValue(t.Full[0]), FormatValue(t.Full[2]), FormatValue(t.Full[1]))
 	if largest >= 0 {
-		m.Desc += fmt.Sprintf(" The largest is %s, %s.", formatSig(largest, 2), which)
+		// The table's figures: at the row labels' two, the largest read
+		// 0.011 beside other rows of 0.011.
+		m.Desc += fmt.Sprintf(" The largest is %s, %s.", FormatValue(largest), which)
 	}
 	return m
 }
