@@ -177,7 +177,7 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 	if res.StatusCode != http.StatusOK {
 		t.Fatalf("page: %d", res.StatusCode)
 	}
-	for _, want := range []string{"Calibration questions", "no true value yet", "Answered by: Ada Quist, Bo Lindh, Cem Arslan, Dana Roe.",
+	for _, want := range []string{"Calibration questions", "no true value yet", "Answered by everyone: Ada Quist, Bo Lindh, Cem Arslan and Dana Roe.",
 		"The scores appear once every calibration question has a true value: 3 questions still have none.", "Caution."} {
 		if !strings.Contains(body, want) {
 			t.Errorf("before truths: page lacks %q", want)

@@ -27,11 +27,27 @@ func seedInputID(q int64, name string) string {
 	return "f-q" + strconv.FormatInt(q, 10) + "-" + name
 }
 
-func namesOrNobody(names []string) string {
-	if len(names) == 0 {
-		return "nobody"
+// answeredBy says who has answered a calibration question and who has
+// not, in a sentence: "Not yet: nobody." read as a placeholder where
+// everyone had answered.
+func answeredBy(answered, not []string) string {
+	switch {
+	case len(answered) == 0 && len(not) == 0:
+		return "No active expert on the panel yet."
+	case len(answered) == 0:
+		return "Nobody has answered yet."
+	case len(not) == 0:
+		return "Answered by everyone: " + wordList(answered) + "."
 	}
-	return strings.Join(names, ", ")
+	return "Answered by " + wordList(answered) + ". Not yet: " + wordList(not) + "."
+}
+
+// wordList writes names as prose lists them: "A", "A and B", "A, B and C".
+func wordList(names []string) string {
+	if len(names) < 2 {
+		return strings.Join(names, "")
+	}
+	return strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1]
 }
 
 // alphaSentence says what the cut-off is and how it was chosen.

@@ -91,3 +91,38 @@ func TestSteadinessNamesTheLargestShiftAsTheTableDoes(t *testing.T) {
 		t.Errorf("the demo's one target question: the picture's largest shift reads %s, the table's %s", got[0], got[1])
 	}
 }
+
+// TestCalibrationQuestionsSayWhoHasAnswered: the demo's calibration
+// questions said "Answered by: Ines Varga, Tomas Lindqvist, Priya Raman,
+// Ole Brandt. Not yet: nobody." (a placeholder's words) and "Revealing
+// freezes the answers: Tomas Lindqvist, Priya Raman have not answered".
+// They read as sentences now.
+func TestCalibrationQuestionsSayWhoHasAnswered(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	_, body := h.get(calibrationPath(ws.ID))
+	for _, want := range []string{
+		"Answered by everyone: Ines Varga, Tomas Lindqvist, Priya Raman and Ole Brandt.",          // Q4 to Q6
+		"Answered by Ines Varga and Ole Brandt. Not yet: Tomas Lindqvist and Priya Raman.",        // Q2
+		"Answered by Tomas Lindqvist. Not yet: Ines Varga, Priya Raman and Ole Brandt.",           // Q3
+		"Revealing freezes the answers: Tomas Lindqvist and Priya Raman have not answered",        // Q2
+		"Revealing freezes the answers: Ines Varga, Priya Raman and Ole Brandt have not answered", // Q3
+	} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the calibration page lacks %q", want)
+		}
+	}
+	if strings.Contains(body, "nobody") {
+		t.Error("the calibration page says \"nobody\" where everyone has answered")
+	}
+}
+
+func TestWordList(t *testing.T) {
+	for _, c := range []struct {
+		in   []string
+		want string
+	}{{nil, ""}, {[]string{"A"}, "A"}, {[]string{"A", "B"}, "A and B"}, {[]string{"A", "B", "C"}, "A, B and C"}} {
+		if got := wordList(c.in); got != c.want {
+			t.Errorf("wordList(%q) = %q, want %q", c.in, got, c.want)
+		}
+	}
+}
