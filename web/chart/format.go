@@ -3,6 +3,7 @@ package chart
 import (
 	"math"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -252,4 +253,14 @@ func appendHundredths(b []byte, n int64) []byte {
 		b = append(b, '.', byte('0'+frac/10), byte('0'+frac%10))
 	}
 	return b
+}
+
+// proseList writes labels as prose lists them, "A", "A and B", "A, B and
+// C": a note that the density rose above the chart "for Expert A,
+// Equal-weight pool" read as one curve's name.
+func proseList(labels []string) string {
+	if len(labels) < 2 {
+		return strings.Join(labels, "")
+	}
+	return strings.Join(labels[:len(labels)-1], ", ") + " and " + labels[len(labels)-1]
 }

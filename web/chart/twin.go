@@ -138,7 +138,7 @@ type frameKey struct {
 	quantity, units string
 	lower, upper    float64
 	x0, x1, top     float64
-	clipped         string // the labels of curves cut at the top, joined by ", "
+	clipped         string // the labels of curves cut at the top, as a prose list
 	percent         bool   // the x axis's numbers as percentages
 }
 
@@ -293,7 +293,7 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	}
 
 	key := frameKey{layout: lay.Name, quantity: quantity, units: units, lower: lower, upper: upper,
-		x0: x0, x1: x1, top: top, clipped: strings.Join(g.ClippedBy, ", "), percent: percent}
+		x0: x0, x1: x1, top: top, clipped: proseList(g.ClippedBy), percent: percent}
 	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
 	return g
 }
