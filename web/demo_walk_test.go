@@ -1,6 +1,8 @@
 package web
 
 import (
+	"net/http"
+	"net/url"
 	"regexp"
 	"strconv"
 	"strings"
@@ -136,5 +138,29 @@ func TestSpikeNoteListsTheCurvesAsProse(t *testing.T) {
 	_, body := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10))
 	if want := "(cut at 80) for Ole Brandt and Equal-weight pool."; !strings.Contains(body, want) {
 		t.Errorf("the panel's picture lacks %q", want)
+	}
+}
+
+// TestExpertHomeSaysWhatALaterRoundAsks: in the demo's round 2 an
+// expert's home said only "Round 2 is open: you can enter and revise your
+// answers", beside grey tags reading "answered in an earlier round": it
+// did not say where the other experts' answers are, nor that an answer
+// left alone still counts.
+func TestExpertHomeSaysWhatALaterRoundAsks(t *testing.T) {
+	h, ws, _, _, links := seeded(t)
+	const next = "an answer you leave as it is stays your judgement"
+	if _, body := h.get(links[0].Path); strings.Contains(body, next) {
+		t.Error("round 1's home speaks of a later round")
+	}
+	for _, f := range []url.Values{{"action": {"close"}}, {"action": {"open"}, "reason": {"Discussed (invented)."}}} {
+		if res, _ := h.post(workshopPath(ws.ID)+"/round", f); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("round %v: %d", f, res.StatusCode)
+		}
+	}
+	_, body := h.get(links[0].Path)
+	for _, want := range []string{"what the other experts said in round 1, without their names", next} {
+		if !strings.Contains(body, want) {
+			t.Errorf("round 2's home lacks %q", want)
+		}
 	}
 }
