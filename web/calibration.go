@@ -56,7 +56,8 @@ type calibrationView struct {
 	Scored   int  // calibration questions the scores are computed on
 	Ready    bool // every calibration question scored has a true value
 	// Unshown counts the true values entered but not yet shown to the
-	// experts: the page scores on them, the report waits for the reveal.
+	// experts, of the questions scored: the page scores on them, the
+	// report waits for their reveal.
 	Unshown int
 	Probs   []float64
 
@@ -182,6 +183,13 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		AlphaForm: forms.alpha, Weights: d.Weights, Experts: set.Experts,
 		Questions: d.Questions, Names: expertNames(d.Experts),
 	}
+	// A question left out of the scores holds nothing back: the report
+	// counts only the scored questions' true values (record's
+	// recordPerformance), and so does Unshown.
+	skipped := map[int64]bool{}
+	for _, s := range set.Skipped {
+		skipped[s.ID] = true
+	}
 	for _, q := range d.Questions {
 		if !q.Calibration {
 			continue
@@ -207,7 +215,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 			}
 		}
 		v.Seeds = append(v.Seeds, row)
-		if q.TrueValue != nil && !q.Revealed {
+		if q.TrueValue != nil && !q.Revealed && !skipped[q.ID] {
 			v.Unshown++
 		}
 	}

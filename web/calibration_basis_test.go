@@ -258,7 +258,7 @@ func TestReportShowsTheScoresBehindAppliedWeights(t *testing.T) {
 		}
 	}
 	for _, want := range []string{"The performance weights in force were applied", "which were stored with them",
-		"Scores on the current answers are not in this record: scores are shown once every calibration question",
+		"Scores on the current answers are not in this record: scores are shown once every scored calibration question",
 		"true value withheld until revealed", "Pool weights over time", "scored (invented)"} {
 		if !strings.Contains(body, htmlEscape(want)) {
 			t.Errorf("report lacks %q", want)

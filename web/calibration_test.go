@@ -505,7 +505,7 @@ func TestReportAndExportCarryTheScores(t *testing.T) {
 	h := p.h
 	p.enterTruths(t, false)
 	_, body := h.get(workshopPath(p.ws.ID) + "/report")
-	if !strings.Contains(body, "No scores in this record: scores are shown once every calibration question") {
+	if !strings.Contains(body, "No scores in this record: scores are shown once every scored calibration question") {
 		t.Error("report does not say why there are no scores before the reveal")
 	}
 	for _, tv := range seedTruths {
@@ -736,7 +736,7 @@ func TestScoresOnUnshownTruthsAreProvisional(t *testing.T) {
 	p.enterTruths(t, false)
 	_, body := p.h.get(p.path())
 	if !strings.Contains(body, `id="scores-table"`) || !strings.Contains(body, `id="scores-provisional"`) ||
-		!strings.Contains(body, htmlEscape("4 calibration questions' true values are not yet shown to the experts, so these scores are provisional")) {
+		!strings.Contains(body, htmlEscape("3 calibration questions' true values are not yet shown to the experts, so these scores are provisional")) {
 		t.Errorf("scores on unshown truths are not marked provisional")
 	}
 	p.enterTruths(t, true)

@@ -164,3 +164,30 @@ func TestExpertHomeSaysWhatALaterRoundAsks(t *testing.T) {
 		}
 	}
 }
+
+// TestUnshownTrueValuesCountedAlike: the demo's calibration page said "5
+// calibration questions' true values are not yet shown" and its report
+// "(4 not yet)": the page counted question 3, which asks at other
+// probabilities and is left out of the scores, so its true value holds
+// nothing back. Both count the questions the scores wait on.
+func TestUnshownTrueValuesCountedAlike(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	_, page := h.get(calibrationPath(ws.ID))
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	pm := regexp.MustCompile(`(\d+) calibration questions&#39; true values are not yet shown`).FindStringSubmatch(page)
+	rm := regexp.MustCompile(`true value is revealed \((\d+) not yet\)`).FindStringSubmatch(report)
+	if pm == nil || rm == nil {
+		t.Fatalf("the page's count %v, the report's %v", pm, rm)
+	}
+	if pm[1] != rm[1] || pm[1] != "4" {
+		t.Errorf("the calibration page counts %s true values not yet shown, the report %s; the demo's scores wait on 4", pm[1], rm[1])
+	}
+	for _, want := range []string{"once the true value of every scored calibration question is shown"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the calibration page lacks %q", want)
+		}
+	}
+	if want := "every scored calibration question&#39;s true value is revealed"; !strings.Contains(report, want) {
+		t.Errorf("the report lacks %q", want)
+	}
+}

@@ -18,7 +18,7 @@ func recordPerformance(src workshop.Snapshot) (*workshop.Performance, string) {
 		}
 		return nil, "no calibration question can be scored: " + skippedText(set.Skipped)
 	case len(set.Pending) > 0:
-		return nil, fmt.Sprintf("scores are shown once every calibration question's true value is revealed (%d not yet)", len(set.Pending))
+		return nil, fmt.Sprintf("scores are shown once every scored calibration question's true value is revealed (%d not yet)", len(set.Pending))
 	}
 	p, err := workshop.PerformanceInForce(set, src.Weights)
 	if err != nil {
