@@ -191,3 +191,16 @@ func TestUnshownTrueValuesCountedAlike(t *testing.T) {
 		t.Errorf("the report lacks %q", want)
 	}
 }
+
+// TestQuestionFormMarksTheWordingRequiredAsTheOthers: the question form
+// marked its quantity "(required)" beside the label, as every other form
+// does, but its wording by a hint starting "Required." under the box.
+func TestQuestionFormMarksTheWordingRequiredAsTheOthers(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	for _, path := range []string{workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/edit"} {
+		_, body := h.get(path)
+		if !strings.Contains(body, "Wording the experts read (required)") || strings.Contains(body, "Required. Ask about") {
+			t.Errorf("%s: the wording is not marked required as the other fields are", path)
+		}
+	}
+}

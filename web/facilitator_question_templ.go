@@ -118,7 +118,7 @@ func questionFormPage(v questionForm) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = textArea(v.Form, "wording", "Wording the experts read", "Required. Ask about one quantity, with its population and time frame.").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = textArea(v.Form, "wording", "Wording the experts read (required)", "Ask about one quantity, with its population and time frame.").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
