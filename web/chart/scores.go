@@ -267,6 +267,23 @@ func newScoresModel(v ScoresView) scoresModel {
 	if m.Cut.ShadeLabel != "" {
 		placed = append(placed, labelBox{x0: f.Left + 8, x1: f.Left + 8 + float64(len(shadeText))*mapCharW, y0: f.bottom() - 10 - mapLineH + 4, y1: f.bottom()})
 	}
+	// Every disc, and the pool's diamond, is in place before any label:
+	// a label kept off the other labels but not off the discs, and the
+	// demo's "weighted pool" was written over Priya Raman's disc.
+	type disc struct {
+		x, y, rad float64
+		clipped   bool
+	}
+	discs := make([]disc, len(rows))
+	for i, r := range rows {
+		x, clipped := xOf(r.Calibration)
+		rad := mapMinR
+		if r.Weight > 0 {
+			rad = math.Max(mapMinR+1, mapMaxR*math.Sqrt(r.Weight))
+		}
+		discs[i] = disc{x: x, y: f.py(r.Information), rad: rad, clipped: clipped}
+		placed = append(placed, labelBox{x0: x - rad, x1: x + rad, y0: f.py(r.Information) - rad, y1: f.py(r.Information) + rad})
+	}
 	if pooled != nil {
 		x, _ := xOf(pooled.Calibration)
 		y := f.py(pooled.Information)
@@ -275,19 +292,22 @@ func newScoresModel(v ScoresView) scoresModel {
 			Path:  "M" + coord(x) + "," + coord(y-s) + " L" + coord(x+s) + "," + coord(y) + " L" + coord(x) + "," + coord(y+s) + " L" + coord(x-s) + "," + coord(y) + " Z",
 			Label: "weighted pool",
 		}
-		b := placeLabel(d.Label, x, y, s, f, placed)
+		// The pool often sits on the disc of the expert it follows: its
+		// label starts clear of that disc, not inside it.
+		clear := s
+		for _, c := range discs {
+			if math.Hypot(c.x-x, c.y-y) < c.rad {
+				clear = math.Max(clear, c.rad+math.Hypot(c.x-x, c.y-y))
+			}
+		}
+		b := placeLabel(d.Label, x, y, clear, f, placed)
 		placed = append(placed, b)
 		d.LabelX, d.LabelY, d.Anchor = coord(b.textX), coord(b.baseline), b.anchor
 		m.Pool = d
 	}
 	for _, i := range order {
 		r := rows[i]
-		x, clipped := xOf(r.Calibration)
-		y := f.py(r.Information)
-		rad := mapMinR
-		if r.Weight > 0 {
-			rad = math.Max(mapMinR+1, mapMaxR*math.Sqrt(r.Weight))
-		}
+		x, y, rad, clipped := discs[i].x, discs[i].y, discs[i].rad, discs[i].clipped
 		label := r.Expert + " · " + FormatPercent(r.Weight)
 		if clipped {
 			label += " (calibration " + scoreText(r) + ")"

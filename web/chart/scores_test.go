@@ -207,3 +207,33 @@ func TestWeightMapWordsKeepScoresBelowTheCutOff(t *testing.T) {
 		}
 	}
 }
+
+// TestWeightMapLabelsKeepOffTheDiscs: the invented demo's map wrote
+// "weighted pool" over Priya Raman's disc (calibration 0.1878,
+// information 0.1573), which sits just left of the pool's diamond: a
+// label kept off the other labels but not off the discs. Every label now
+// keeps off every disc and the diamond.
+func TestWeightMapLabelsKeepOffTheDiscs(t *testing.T) {
+	v := ScoresView{Alpha: 0.8392, Rows: []ScoreRow{ // the demo's scores, as the page gives them
+		{Expert: "Ines Varga", Calibration: 0.8392, Information: 0.2078, Weight: 1},
+		{Expert: "Tomas Lindqvist", Calibration: 0.808, Information: 0.168},
+		{Expert: "Priya Raman", Calibration: 0.1878, Information: 0.1573},
+		{Expert: "Ole Brandt", Calibration: 0.0003602, Information: 2.656},
+	}, Pooled: &ScoreRow{Calibration: 0.8392, Information: 0.2078}}
+	ns := parse(t, render(t, Scores(v)))
+	var marks []labelBox
+	for _, c := range find(ns, "circle", "map-expert") {
+		x, y, r := c.num(t, "cx"), c.num(t, "cy"), c.num(t, "r")
+		marks = append(marks, labelBox{x0: x - r, x1: x + r, y0: y - r, y1: y + r})
+	}
+	if len(marks) != 4 {
+		t.Fatalf("%d discs, want 4", len(marks))
+	}
+	for _, l := range labelBoxes(t, ns) {
+		for i, m := range marks {
+			if l.overlaps(m) {
+				t.Errorf("a label at [%.0f, %.0f] × [%.0f, %.0f] lies over %s's disc", l.x0, l.x1, l.y0, l.y1, v.Rows[i].Expert)
+			}
+		}
+	}
+}
