@@ -46,3 +46,34 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 		}
 	}
 }
+
+// TestExpertAnswersPageOnAPhone: the facilitator's page of one demo
+// expert's answers, on a phone, cut its table at the screen's edge, with
+// each row's "Enter or revise" link half off screen ("En / or / rev").
+// On a phone each question is a block of labelled lines.
+func TestExpertAnswersPageOnAPhone(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	es, _ := site.DB.Experts(ctx, ws[0].ID)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(390, 844, true)
+	fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/experts/" + strconv.FormatInt(es[0].ID, 10))
+	cut := eval[[]string](fac, "the answers' cells", `Array.from(document.querySelectorAll("main table td, main table th")).filter(c => c.getClientRects().length && c.getBoundingClientRect().right > 390.5).map(c => c.innerText.trim())`)
+	if len(cut) > 0 {
+		t.Errorf("at 390 px the expert's answers run past the screen: %q", cut)
+	}
+	if n := fac.count(`main table a`); n != 6 {
+		t.Errorf("%d links to enter an answer, want one per demo question", n)
+	}
+	if side := eval[int](fac, "the rows' cells", `Array.from(document.querySelectorAll("main table tbody tr")).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+		t.Errorf("at 390 px %d rows of the expert's answers lay their cells side by side", side)
+	}
+	shots := newScreenshots(t)
+	shots.take(fac, "expert-answers-390")
+}

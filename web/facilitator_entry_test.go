@@ -133,7 +133,7 @@ func TestExpertViewForTheFacilitator(t *testing.T) {
 		!strings.Contains(body, `href="`+entryPath(ws.ID, qs[0].ID, es[2].ID)+`"`) {
 		t.Fatalf("expert view: %d", r.StatusCode)
 	}
-	if !strings.Contains(body, "<td>expert</td>") {
+	if !strings.Contains(body, `<td data-label="Entered by">expert</td>`) {
 		t.Error("the expert view does not say who entered the answers")
 	}
 	if _, ov := h.get(workshopPath(ws.ID)); !strings.Contains(ov, `href="`+expertPagePath(ws.ID, es[2].ID)+`"`) {
