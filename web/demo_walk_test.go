@@ -204,3 +204,20 @@ func TestQuestionFormMarksTheWordingRequiredAsTheOthers(t *testing.T) {
 		}
 	}
 }
+
+// TestRosterButtonsSayTheyAsk: on the overview's panel "Revoke…" says by
+// its ellipsis that it asks before it acts; "New link", beside it, asks
+// too (a new link ends the expert's working one) but did not say so.
+func TestRosterButtonsSayTheyAsk(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	_, body := h.get(workshopPath(ws.ID))
+	if n := strings.Count(body, ">New link…</button>"); n != len(es) || strings.Contains(body, ">New link</button>") {
+		t.Errorf("%d of %d \"New link\" buttons say that they ask first", n, len(es))
+	}
+	// And it does ask: the button's post answers with a page to confirm,
+	// and the link stays as it was.
+	res, page := h.post(workshopPath(ws.ID)+"/experts/"+strconv.FormatInt(es[0].ID, 10)+"/reissue", url.Values{})
+	if res.StatusCode != http.StatusOK || !strings.Contains(page, "New link for "+es[0].Name) {
+		t.Errorf("a new link without confirming: status %d", res.StatusCode)
+	}
+}
