@@ -147,7 +147,7 @@ func TestStudyInBrowser(t *testing.T) {
 	for _, w := range []int64{390, 1366} {
 		lead.viewport(w, 900, w < 600)
 		lead.open(after.String())
-		lead.sees("plan under the posterior", "A follow-up to the recorded", "Under Posterior after the recorded data",
+		lead.sees("plan under the posterior", "A follow-up to the recorded", "Planned under: Posterior after the recorded data",
 			chart.FormatPercent(aPost.Assurance), "For the recorded data together with a typical outcome of the planned 200 trials")
 		fits(t, lead, "study page under the posterior", w)
 		shots.take(lead, fmt.Sprintf("study-03-plan-under-the-posterior-%d", w))

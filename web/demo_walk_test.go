@@ -221,3 +221,15 @@ func TestRosterButtonsSayTheyAsk(t *testing.T) {
 		t.Errorf("a new link without confirming: status %d", res.StatusCode)
 	}
 }
+
+// TestStudyPlanNamesItsPriorAsALabel: the demo's plan was headed "Under
+// Agreed prior, Beta(2.951, 55.56)", a sentence with a capital where the
+// prior's name (also "Equal-weight pool", "Ines Varga") starts; it is
+// headed as the form's "Plan under" field names it.
+func TestStudyPlanNamesItsPriorAsALabel(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
+	if !strings.Contains(body, "<h3>Planned under: Agreed prior, Beta(2.951, 55.56)</h3>") || strings.Contains(body, "<h3>Under ") {
+		t.Error("the demo's plan is not headed \"Planned under: Agreed prior, Beta(2.951, 55.56)\"")
+	}
+}

@@ -440,7 +440,7 @@ func TestStudySaysWhereAPoolsBetaStandsInOnlyRoughly(t *testing.T) {
 	choice = choice[:strings.Index(choice, `"`)]
 	_, body = h.get(sp + "?prior=" + choice + "&trials=100")
 	plan := html.UnescapeString(body)
-	plan = plan[strings.Index(plan, "Under Equal-weight pool"):]
+	plan = plan[strings.Index(plan, "Planned under: Equal-weight pool"):]
 	plan = plan[:strings.Index(plan, "What the study may see")]
 	if !strings.Contains(plan, caveat) {
 		t.Errorf("the plan under the equal-weight pool lacks the caveat:\n%s", plan)
@@ -448,7 +448,7 @@ func TestStudySaysWhereAPoolsBetaStandsInOnlyRoughly(t *testing.T) {
 	// The agreed prior, the plan's default, is no stand-in.
 	_, body = h.get(sp + "?trials=100")
 	plan = html.UnescapeString(body)
-	plan = plan[strings.Index(plan, "<h3>Under "):]
+	plan = plan[strings.Index(plan, "<h3>Planned under: "):]
 	plan = plan[:strings.Index(plan, "What the study may see")]
 	if strings.Contains(plan, "only roughly") {
 		t.Errorf("the plan under the agreed prior has a caveat:\n%s", plan)
@@ -648,7 +648,7 @@ func TestPlanUnderThePosterior(t *testing.T) {
 	if !strings.Contains(body, `<option value="posterior">Posterior after the recorded data: Beta(10, 230)</option>`) {
 		t.Error("the plan does not offer the posterior after the recorded data, Beta(10, 230), unselected")
 	}
-	if !strings.Contains(body, "<h3>Under Agreed prior, Beta(2, 38)</h3>") {
+	if !strings.Contains(body, "<h3>Planned under: Agreed prior, Beta(2, 38)</h3>") {
 		t.Error("the default plan is not under the agreed prior")
 	}
 	_, body = h.get(sp + "?prior=posterior&trials=100&threshold=0.08&direction=below&confidence=0.5")
@@ -659,7 +659,7 @@ func TestPlanUnderThePosterior(t *testing.T) {
 	}
 	typical := elicit.PredictiveQuantile(pmf, 0.5)
 	for _, want := range []string{
-		"<h3>Under Posterior after the recorded data, Beta(10, 230)</h3>",
+		"<h3>Planned under: Posterior after the recorded data, Beta(10, 230)</h3>",
 		"A follow-up to the recorded 8 successes in 200 trials",
 		"carries about as much information as 240 observed trials",
 		"For the recorded data together with a typical outcome of the planned 100 trials: " + strconv.Itoa(typical) + " success",
