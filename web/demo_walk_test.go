@@ -233,3 +233,17 @@ func TestStudyPlanNamesItsPriorAsALabel(t *testing.T) {
 		t.Error("the demo's plan is not headed \"Planned under: Agreed prior, Beta(2.951, 55.56)\"")
 	}
 }
+
+// TestScoresSayWhichCalibrationQuestionsAreLeftOut: the demo has five
+// calibration questions, and its calibration page opened with "Cooke's
+// classical model on 4 calibration questions" and "Only 4 calibration
+// questions were scored", naming question 3, which asks at other
+// probabilities, only at the page's foot. The first line says one more
+// is left out, and links there.
+func TestScoresSayWhichCalibrationQuestionsAreLeftOut(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	_, body := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(body, `One more is <a href="#skipped">left out of the scores</a>.`) || !strings.Contains(body, `id="skipped"`) {
+		t.Error("the scores' first line does not say that one calibration question is left out")
+	}
+}
