@@ -3,6 +3,7 @@ package e2e
 import (
 	"context"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/web"
@@ -47,11 +48,13 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 	}
 }
 
-// TestExpertAnswersPageOnAPhone: the facilitator's page of one demo
-// expert's answers, on a phone, cut its table at the screen's edge, with
-// each row's "Enter or revise" link half off screen ("En / or / rev").
-// On a phone each question is a block of labelled lines.
-func TestExpertAnswersPageOnAPhone(t *testing.T) {
+// TestDemoTablesOnAPhone: on a phone, the facilitator's page of one demo
+// expert's answers cut its table at the screen's edge, each row's "Enter
+// or revise" link half off screen ("En / or / rev"); question 1's panel
+// squeezed its eleven columns of each expert's judgement and fit, Ole
+// Brandt's row a hand's height of blank cells beside his warning, the
+// rest off screen. On a phone each row is a block of labelled lines.
+func TestDemoTablesOnAPhone(t *testing.T) {
 	site := startSite(t)
 	ctx := context.Background()
 	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
@@ -59,21 +62,28 @@ func TestExpertAnswersPageOnAPhone(t *testing.T) {
 	}
 	ws, _ := site.DB.Workshops(ctx)
 	es, _ := site.DB.Experts(ctx, ws[0].ID)
+	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	wsURL := site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10)
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
 	fac.viewport(390, 844, true)
-	fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/experts/" + strconv.FormatInt(es[0].ID, 10))
-	cut := eval[[]string](fac, "the answers' cells", `Array.from(document.querySelectorAll("main table td, main table th")).filter(c => c.getClientRects().length && c.getBoundingClientRect().right > 390.5).map(c => c.innerText.trim())`)
-	if len(cut) > 0 {
-		t.Errorf("at 390 px the expert's answers run past the screen: %q", cut)
-	}
-	if n := fac.count(`main table a`); n != 6 {
-		t.Errorf("%d links to enter an answer, want one per demo question", n)
-	}
-	if side := eval[int](fac, "the rows' cells", `Array.from(document.querySelectorAll("main table tbody tr")).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
-		t.Errorf("at 390 px %d rows of the expert's answers lay their cells side by side", side)
-	}
 	shots := newScreenshots(t)
-	shots.take(fac, "expert-answers-390")
+	for _, c := range []struct{ name, url, table string }{
+		{"an expert's answers", wsURL + "/experts/" + strconv.FormatInt(es[0].ID, 10), "main table"},
+		{"question 1's judgements", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "#judgements table"},
+	} {
+		fac.open(c.url)
+		if n := fac.count(c.table + " tbody tr"); n != 6 && n != 4 {
+			t.Errorf("%s: %d rows", c.name, n)
+		}
+		cut := eval[[]string](fac, "the table's cells", `Array.from(document.querySelectorAll(`+strconv.Quote(c.table+" td, "+c.table+" th")+`)).filter(c => c.getClientRects().length && c.getBoundingClientRect().right > 390.5).map(c => c.innerText.trim())`)
+		if len(cut) > 0 {
+			t.Errorf("%s at 390 px: the table runs past the screen: %q", c.name, cut)
+		}
+		if side := eval[int](fac, "the rows' cells", `Array.from(document.querySelectorAll(`+strconv.Quote(c.table+" tbody tr")+`)).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+			t.Errorf("%s at 390 px: %d rows lay their cells side by side", c.name, side)
+		}
+		shots.take(fac, "demo-table-"+strings.NewReplacer(" ", "-", "'", "").Replace(c.name)+"-390")
+	}
 }

@@ -30,10 +30,10 @@ func TestHugeWeightsShowTheirShares(t *testing.T) {
 	}
 
 	_, panel := h.get(qp)
-	if n := strings.Count(panel, `<td class="num">25%</td>`); n != 4 {
+	if n := strings.Count(panel, `<td class="num" data-label="Weight in pool">25%</td>`); n != 4 {
 		t.Errorf("the panel shows %d shares of 25%%, want 4", n)
 	}
-	if strings.Contains(panel, `<td class="num">0%</td>`) {
+	if strings.Contains(panel, `<td class="num" data-label="Weight in pool">0%</td>`) {
 		t.Error("the panel shows a share of 0%")
 	}
 
@@ -90,7 +90,7 @@ func TestLogWritesSharesAsThePanel(t *testing.T) {
 	}
 	_, panel := h.get(qp)
 	for _, share := range []string{"33.2%", "0.332%"} {
-		if !strings.Contains(panel, `<td class="num">`+share+`</td>`) {
+		if !strings.Contains(panel, `<td class="num" data-label="Weight in pool">`+share+`</td>`) {
 			t.Errorf("the panel does not show the share %s", share)
 		}
 	}
