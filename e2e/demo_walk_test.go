@@ -87,3 +87,34 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 		shots.take(fac, "demo-table-"+strings.NewReplacer(" ", "-", "'", "").Replace(c.name)+"-390")
 	}
 }
+
+// TestStudyComparisonKeepsEachBetaWhole: at 1366 px the demo's study page
+// broke "Beta(2.022, 40.59)" after its comma in the table of priors
+// compared, with room to spare in the columns beside it. A Beta is read
+// whole.
+func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	for _, w := range []int64{1366, 390} {
+		fac.viewport(w, 900, w < 600)
+		fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
+		broken := eval[[]string](fac, "the Betas compared", `Array.from(document.querySelectorAll(".compare-table td")).filter(td => td.textContent.trim().startsWith("Beta(")).filter(td => {
+			const r = document.createRange(); r.selectNodeContents(td);
+			return new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size > 1;
+		}).map(td => td.textContent.trim())`)
+		if n := fac.count(".compare-table td"); n == 0 {
+			t.Fatalf("at %d px the study page compares no priors", w)
+		}
+		if len(broken) > 0 {
+			t.Errorf("at %d px the priors compared break a Beta over lines: %q", w, broken)
+		}
+	}
+}
