@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -245,5 +246,23 @@ func TestScoresSayWhichCalibrationQuestionsAreLeftOut(t *testing.T) {
 	_, body := h.get(calibrationPath(ws.ID))
 	if !strings.Contains(body, `One more is <a href="#skipped">left out of the scores</a>.`) || !strings.Contains(body, `id="skipped"`) {
 		t.Error("the scores' first line does not say that one calibration question is left out")
+	}
+}
+
+// TestPanelNamesTheTrueValueInOneSentence: the demo's calibration
+// question's panel read "True value (hidden from experts ): 0.0413", a
+// space before the bracket; once revealed it read "(hidden from experts ,
+// now revealed )".
+func TestPanelNamesTheTrueValueInOneSentence(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	panel := workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[1].ID, 10)
+	if _, body := h.get(panel); !strings.Contains(body, "True value (hidden from the experts): <strong>0.0413</strong>") {
+		t.Error("the hidden true value is not named in one sentence")
+	}
+	if err := h.db.SetTrueValue(context.Background(), qs[1].ID, 0.0413, true, "Answers in (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if _, body := h.get(panel); !strings.Contains(body, "True value (revealed to the experts): <strong>0.0413</strong>") {
+		t.Error("the revealed true value is not named in one sentence")
 	}
 }

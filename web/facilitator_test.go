@@ -85,7 +85,7 @@ func TestFacilitatorPagesRender(t *testing.T) {
 		{workshopPath(ws.ID) + "/questions/new", []string{"Add a question", "Lower bound", "Chips in bins", "calibration question"}},
 		{workshopPath(ws.ID) + "/log", []string{"Decision log", "Workshop created", "Question added", "Expert added"}},
 		{questionPath(ws.ID, target.ID), []string{"Caution.", "Invented data.", "Linear opinion pool", "(this page names the experts beside their answers; the room view does not)", `<th scope="row">Equal-weight pool</th>`, "Best single Beta", "Ines Varga", "Tomas Lindqvist", "no answer yet", "<svg", "Record agreed prior", "Revision history"}},
-		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from experts", "0.0413"}},
+		{questionPath(ws.ID, qs[1].ID), []string{"True value (hidden from the experts): <strong>0.0413</strong>"}},
 	} {
 		res, body := h.get(tc.path)
 		if res.StatusCode != http.StatusOK {
