@@ -53,7 +53,9 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 // or revise" link half off screen ("En / or / rev"); question 1's panel
 // squeezed its eleven columns of each expert's judgement and fit, Ole
 // Brandt's row a hand's height of blank cells beside his warning, the
-// rest off screen. On a phone each row is a block of labelled lines.
+// rest off screen; the overview's questions and panel hid their links
+// and the "Revoke…" and "New link…" buttons past the screen's edge. On a
+// phone each row is a block of labelled lines.
 func TestDemoTablesOnAPhone(t *testing.T) {
 	site := startSite(t)
 	ctx := context.Background()
@@ -72,6 +74,8 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 	for _, c := range []struct{ name, url, table string }{
 		{"an expert's answers", wsURL + "/experts/" + strconv.FormatInt(es[0].ID, 10), "main table"},
 		{"question 1's judgements", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "#judgements table"},
+		{"the overview's questions", wsURL + "/", "table.table-questions"},
+		{"the overview's panel", wsURL + "/", "table.table-roster"},
 	} {
 		fac.open(c.url)
 		if n := fac.count(c.table + " tbody tr"); n != 6 && n != 4 {
