@@ -53,7 +53,7 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 // or revise" link half off screen ("En / or / rev"); question 1's panel
 // squeezed its eleven columns of each expert's judgement and fit, Ole
 // Brandt's row a hand's height of blank cells beside his warning, the
-// rest off screen; the overview's questions and panel hid their links
+// rest off screen, and its pool's and its revisions' columns ran off it; the overview's questions and panel hid their links
 // and the "Revoke…" and "New link…" buttons past the screen's edge. On a
 // phone each row is a block of labelled lines.
 func TestDemoTablesOnAPhone(t *testing.T) {
@@ -74,11 +74,13 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 	for _, c := range []struct{ name, url, table string }{
 		{"an expert's answers", wsURL + "/experts/" + strconv.FormatInt(es[0].ID, 10), "main table"},
 		{"question 1's judgements", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "#judgements table"},
+		{"question 1's pool", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "table.table-pool"},
+		{"question 1's revisions", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "#history table"},
 		{"the overview's questions", wsURL + "/", "table.table-questions"},
 		{"the overview's panel", wsURL + "/", "table.table-roster"},
 	} {
 		fac.open(c.url)
-		if n := fac.count(c.table + " tbody tr"); n != 6 && n != 4 {
+		if n := fac.count(c.table + " tbody tr"); n < 2 {
 			t.Errorf("%s: %d rows", c.name, n)
 		}
 		cut := eval[[]string](fac, "the table's cells", `Array.from(document.querySelectorAll(`+strconv.Quote(c.table+" td, "+c.table+" th")+`)).filter(c => c.getClientRects().length && c.getBoundingClientRect().right > 390.5).map(c => c.innerText.trim())`)
