@@ -48,14 +48,16 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 	}
 }
 
-// TestDemoTablesOnAPhone: on a phone, the facilitator's page of one demo
-// expert's answers cut its table at the screen's edge, each row's "Enter
-// or revise" link half off screen ("En / or / rev"); question 1's panel
-// squeezed its eleven columns of each expert's judgement and fit, Ole
-// Brandt's row a hand's height of blank cells beside his warning, the
-// rest off screen, and its pool's and its revisions' columns ran off it; the overview's questions and panel hid their links
-// and the "Revoke…" and "New link…" buttons past the screen's edge. On a
-// phone each row is a block of labelled lines.
+// TestDemoTablesOnAPhone: on a phone, the facilitator's tables of many
+// columns ran past the screen's edge. The page of one demo expert's
+// answers cut each row's "Enter or revise" link in half ("En / or /
+// rev"); question 1's panel squeezed the eleven columns of each expert's
+// judgement and fit (Ole Brandt's row a hand's height of blank cells
+// beside his warning) and pushed its pool's percentiles and its
+// revisions' answers off screen; the overview hid its questions' links
+// and its experts' "Revoke…" and "New link…" buttons; the calibration
+// page its pools of the target questions. On a phone each row is now a
+// block of labelled lines.
 func TestDemoTablesOnAPhone(t *testing.T) {
 	site := startSite(t)
 	ctx := context.Background()
@@ -78,6 +80,7 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 		{"question 1's revisions", wsURL + "/q/" + strconv.FormatInt(qs[0].ID, 10), "#history table"},
 		{"the overview's questions", wsURL + "/", "table.table-questions"},
 		{"the overview's panel", wsURL + "/", "table.table-roster"},
+		{"the pools the calibration page compares", wsURL + "/calibration", "#compare table"},
 	} {
 		fac.open(c.url)
 		if n := fac.count(c.table + " tbody tr"); n < 2 {

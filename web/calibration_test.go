@@ -263,13 +263,13 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 				t.Fatal(err)
 			}
 			want := []string{c.label, fv(pool.Mean()), fv(pool.Quantile(0.05)), fv(pool.Quantile(0.5)), fv(pool.Quantile(0.95))}
-			re := regexp.MustCompile(`Q` + strconv.Itoa(q.Position) + ` ` + q.Quantity + `</a></th><td>` + c.label + `</td>((?:<td class="num">[^<]*</td>){4})`)
+			re := regexp.MustCompile(`Q` + strconv.Itoa(q.Position) + ` ` + q.Quantity + `</a></th><td data-label="Weights">` + c.label + `</td>((?:<td class="num" data-label="[^"]*">[^<]*</td>){4})`)
 			m := re.FindStringSubmatch(body)
 			if m == nil {
 				t.Errorf("no %s pool row for %s", c.label, q.Quantity)
 				continue
 			}
-			got := regexp.MustCompile(`<td class="num">([^<]*)</td>`).FindAllStringSubmatch(m[1], -1)
+			got := regexp.MustCompile(`<td class="num" data-label="[^"]*">([^<]*)</td>`).FindAllStringSubmatch(m[1], -1)
 			for n, g := range got {
 				if g[1] != want[n+1] {
 					t.Errorf("%s, %s pool: cell %d is %s, want %s", q.Quantity, c.label, n, g[1], want[n+1])
