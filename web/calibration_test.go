@@ -1075,9 +1075,5 @@ func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 // errorsOn is a page's form-level and field errors, for a test's
 // message.
 func errorsOn(body string) string {
-	var out []string
-	for _, m := range regexp.MustCompile(`<[^>]*class="(?:form-error|field-error)"[^>]*>[^<]*`).FindAllString(body, -1) {
-		out = append(out, m)
-	}
-	return strings.Join(out, "\n")
+	return strings.Join(regexp.MustCompile(`<[^>]*class="(?:form-error|field-error)"[^>]*>[^<]*`).FindAllString(body, -1), "\n")
 }
