@@ -231,8 +231,9 @@ type steadiness struct {
 	Of      string // what the watched questions are, in words
 }
 
-func poolText(p workshop.Percentiles) string {
-	return fv(p.P05) + " · " + fv(p.P50) + " · " + fv(p.P95)
+// poolText writes a pool's 5%, 50% and 95% points on q's bounds.
+func poolText(p workshop.Percentiles, q workshop.Question) string {
+	return fvIn(p.P05, q.Lower, q.Upper) + " · " + fvIn(p.P50, q.Lower, q.Upper) + " · " + fvIn(p.P95, q.Lower, q.Upper)
 }
 
 // newSteadiness prepares rb for the page; questions give the labels and
@@ -258,7 +259,7 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		calib = calib && byID[t].Calibration
 		s.Watched = append(s.Watched, label(t))
 		if p, ok := full[t]; ok {
-			s.Full = append(s.Full, poolText(p))
+			s.Full = append(s.Full, poolText(p, byID[t]))
 		} else {
 			s.Full = append(s.Full, "no pool")
 		}
@@ -314,7 +315,7 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 				if i < len(r.Shifts) {
 					row.Shift = r.Shifts[i]
 				}
-				l.Pools = append(l.Pools, poolText(p))
+				l.Pools = append(l.Pools, poolText(p, byID[t]))
 			}
 			s.Picture.Targets[i].Rows = append(s.Picture.Targets[i].Rows, row)
 		}

@@ -253,7 +253,7 @@ func studyPage(v studyView) templ.Component {
 func stamp(t time.Time) string { return t.UTC().Format("2006-01-02 15:04 UTC") }
 
 func priorLine(d elicit.ScaledBeta) string {
-	return "Mean " + fv(d.Mean()) + ", SD " + fv(d.SD()) + "; 90% between " + fv(d.Quantile(0.05)) + " and " + fv(d.Quantile(0.95)) + "."
+	return "Mean " + fvIn(d.Mean(), d.Lower, d.Upper) + ", SD " + fv(d.SD()) + "; 90% between " + fvIn(d.Quantile(0.05), d.Lower, d.Upper) + " and " + fvIn(d.Quantile(0.95), d.Lower, d.Upper) + "."
 }
 
 func unitsSuffix(u string) string {

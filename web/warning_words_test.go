@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"net/http"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -148,5 +149,41 @@ func TestPointWrittenAsABoundOnThePanelAndReport(t *testing.T) {
 		if !strings.Contains(sec, w) {
 			t.Errorf("the report's section lacks %q:\n%s", w, sec)
 		}
+	}
+}
+
+// A fitted point close to a bound keeps its own side of it on the
+// facilitator's pages, as on the expert's: 0.9997, 0.9999 and 0.999985
+// at 5/50/95 fit a 95% point of 0.9999833 (`parley fit`), which four
+// figures wrote as "1", the bound, in the panel's fits, its pool and
+// single Beta, and the report.
+func TestFacilitatorPointsKeepOffTheBound(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	ctx := context.Background()
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of relays close on demand? (invented)",
+		Quantity: "Closing share", Units: "proportion", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	for _, e := range es[:2] {
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{0.9997, 0.9999, 0.999985}}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	cellOne := regexp.MustCompile(`data-label="(5%|50%|95%|Mean)">\s*(≈ )?1\s*(\*)?\s*<`)
+	_, panel := h.get(questionPath(ws.ID, q.ID))
+	if m := cellOne.FindAllString(panel, -1); len(m) > 0 {
+		t.Errorf("the panel writes points inside (0, 1) as 1: %q", m)
+	}
+	if !strings.Contains(panel, ">0.99998<") {
+		t.Error("the panel does not write the fitted 95% point 0.99998")
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	sec := reportSection(t, report, q.ID)
+	// The stated 0.999985 (0.99999 to five figures) and the fitted
+	// 0.99998 keep off 1 too.
+	if strings.Contains(sec, "95%:\u00a01<") || !strings.Contains(sec, "95%:\u00a00.99999<") || !strings.Contains(sec, "<td>0.99998</td>") {
+		t.Error("the report writes the stated 95% value or the fitted 95% point as 1")
 	}
 }
