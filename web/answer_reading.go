@@ -28,10 +28,6 @@ const (
 	unitPercent    = "percent"
 )
 
-// isProportion reports whether q's values are proportions, which experts
-// may type as percentages.
-func isProportion(q workshop.Question) bool { return q.IsProportion() }
-
 // readAnswer parses the posted form into the question's format, then
 // lets elicit judge it: every field's problem at once (Problems), then
 // the fit's own rules (Fit). Messages land beside their fields, written
@@ -41,7 +37,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 	// answer's own rules from being checked: every error shows at once.
 	before := len(f.Errors)
 	var a workshop.Answer
-	asPercent := isProportion(q) && f.Value("unit") == unitPercent
+	asPercent := q.IsProportion() && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
 		v, pct, err := workshop.ParseAnswerNumber(name, f.Value(name), q, asPercent)
@@ -173,14 +169,14 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 	typed := strings.TrimSpace(f.Value(ie.Field))
 	lo, hi := chart.FormatValue(q.Lower), chart.FormatValue(q.Upper)
 	between := "between " + lo + " and " + hi
-	if isProportion(q) {
+	if q.IsProportion() {
 		between = "between 0 and 1 (0% and 100%)"
 	}
 	switch ie.Rule {
 	case elicit.RuleRequired:
 		return "Please fill this in."
 	case input.RuleNumberSyntax, elicit.RuleFinite:
-		if isProportion(q) {
+		if q.IsProportion() {
 			return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type a decimal such as 0.05, or a percentage such as 5%."
 		}
 		return "“" + input.Clip(typed, 24) + "” is not a number Parley can read. Type digits with a decimal point, such as 12.5."
@@ -195,7 +191,7 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 		return "Type the confidence as a percentage: did you mean " + ie.Detail + "%?"
 	case elicit.RuleValueInBounds:
 		msg := "Must be " + between + "; you typed " + typed + "."
-		if v, err := strconv.ParseFloat(strings.TrimSuffix(typed, "%"), 64); err == nil && isProportion(q) && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
+		if v, err := strconv.ParseFloat(strings.TrimSuffix(typed, "%"), 64); err == nil && q.IsProportion() && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
 			msg += " Did you mean " + typed + "%? Type " + typed + "% or choose percentages above."
 		}
 		return msg
@@ -286,7 +282,7 @@ func confidenceBack(c float64) string { return chart.FormatWithin(c, 0, 1, true)
 // readAsLine says how a proportion question's values were read: "Read as
 // 0.02 (2%), 0.05 (5%) and 0.12 (12%)."
 func readAsLine(q workshop.Question, values []float64) string {
-	if !isProportion(q) || len(values) == 0 {
+	if !q.IsProportion() || len(values) == 0 {
 		return ""
 	}
 	parts := make([]string, len(values))

@@ -641,7 +641,7 @@ func basisSentence(b workshop.WeightBasis, labels map[int64]string) string {
 	}
 	return "Cooke's classical model on " + strconv.Itoa(len(b.Questions)) + " calibration " + plural(len(b.Questions), "question", "questions") +
 		": " + strings.Join(qs, "; ") + ". " + strconv.Itoa(len(b.CalibrationAnswers)) + " " + plural(len(b.CalibrationAnswers), "answer", "answers") +
-		" scored, quantiles at " + probsLabel(b.Probs) + "; cut-off α = " + alphaText(b.Alpha, b.LogAlpha) + ", " + rule + "."
+		" scored, quantiles at " + workshop.ProbsLabel(b.Probs) + "; cut-off α = " + alphaText(b.Alpha, b.LogAlpha) + ", " + rule + "."
 }
 
 // strengthShort names a calibration warning in a few words.

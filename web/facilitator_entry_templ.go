@@ -150,9 +150,9 @@ func entryPageView(v entryView) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		var templ_7745c5c3_Var10 string
-		templ_7745c5c3_Var10, templ_7745c5c3_Err = templ.JoinStringErrs(formatLabel(v.Question))
+		templ_7745c5c3_Var10, templ_7745c5c3_Err = templ.JoinStringErrs(workshop.FormatLabel(v.Question))
 		if templ_7745c5c3_Err != nil {
-			return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_entry.templ`, Line: 21, Col: 104}
+			return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_entry.templ`, Line: 21, Col: 113}
 		}
 		_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var10))
 		if templ_7745c5c3_Err != nil {

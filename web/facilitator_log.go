@@ -227,7 +227,7 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			if q.Calibration {
 				kind = "Calibration question"
 			}
-			return kind + ", asked as " + formatLabel(q) + "."
+			return kind + ", asked as " + workshop.FormatLabel(q) + "."
 		}
 	case workshop.EventWeightsSet:
 		return w.weights(d)
