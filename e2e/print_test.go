@@ -96,7 +96,7 @@ func TestReportPrints(t *testing.T) {
 	for _, w := range []int64{1280, 1366} {
 		fac.viewport(w, 900, false)
 		fac.open(wsURL + "/report")
-		fac.sees("report", "Agreed priors", "1 of 1 target questions have an agreed prior")
+		fac.sees("report", "Agreed priors", "1 of 1 target question has an agreed prior")
 		fits(t, fac, "report", w)
 		if over := eval[float64](fac, "summary table overflow", `(() => { const t = document.querySelector(".table-priors"); const m = t.closest("section") || t.parentElement; return t.getBoundingClientRect().right - m.getBoundingClientRect().right; })()`); over > 0.5 {
 			t.Errorf("the agreed-priors summary runs %.0f px past its section's right edge at %d px", over, w)

@@ -191,12 +191,12 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	// The room follows round-2 saves live.
 	room.open(roomURL(q1))
 	room.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
-	room.sees("round 2 room", "0 of 4 experts have revised this question in round 2 so far.")
+	room.sees("round 2 room", "No expert has revised this question in round 2 yet.")
 	ines := br.person("Ines Varga again")
 	openQuestion(t, ines, site.URL+linkOf(t, links, "Ines Varga"), 1)
 	typeValues(ines, "0.02", "0.045", "0.1")
 	saveAnswer(t, ines)
-	if err := room.poll(liveWithin, `document.body.innerText.includes("1 of 4 experts have revised this question in round 2 so far.")`); err != nil {
+	if err := room.poll(liveWithin, `document.body.innerText.includes("1 of 4 experts has revised this question in round 2 so far.")`); err != nil {
 		t.Fatalf("the room did not show the round-2 save within %v: %v", liveWithin, err)
 	}
 	// The panel itself stays as round 1 closed, as the experts see it.

@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/record"
 )
 
 // The tests here come from walking the invented demo as its users would:
@@ -264,5 +266,49 @@ func TestPanelNamesTheTrueValueInOneSentence(t *testing.T) {
 	}
 	if _, body := h.get(panel); !strings.Contains(body, "True value (revealed to the experts): <strong>0.0413</strong>") {
 		t.Error("the revealed true value is not named in one sentence")
+	}
+}
+
+// TestCountsAgreeWithTheirNumbers: the room's progress line read "0 of 4
+// experts have revised this question in round 2 so far." (an empty
+// table) and "1 of 4 experts have revised"; the report's "1 of 1 target
+// questions have an agreed prior"; and an expert's picture named their
+// own curve "You" mid-sentence ("for You and Equal-weight pool").
+func TestCountsAgreeWithTheirNumbers(t *testing.T) {
+	for _, c := range []struct {
+		answered, active, round int
+		want                    string
+	}{
+		{0, 4, 2, "No expert has revised this question in round 2 yet."},
+		{1, 4, 2, "1 of 4 experts has revised this question in round 2 so far."},
+		{3, 4, 2, "3 of 4 experts have revised this question in round 2 so far."},
+		{1, 1, 1, "1 of 1 expert has answered this question in round 1 so far."},
+	} {
+		verb := "answered"
+		if c.round > 1 {
+			verb = "revised"
+		}
+		if got := roomProgress(c.answered, c.active, verb, c.round); got != c.want {
+			t.Errorf("roomProgress(%d, %d) = %q, want %q", c.answered, c.active, got, c.want)
+		}
+	}
+	qs := []record.Question{{AgreedPrior: &record.Prior{}}}
+	if got := agreedCount(qs); got != "1 of 1 target question has an agreed prior" {
+		t.Errorf("agreedCount = %q", got)
+	}
+	if got := agreedCount(append(qs, record.Question{})); got != "1 of 2 target questions has an agreed prior" {
+		t.Errorf("agreedCount = %q", got)
+	}
+	// In round 2 Ole Brandt's own spike rises above the density axis on
+	// question 1: his page names it as his curve.
+	h, ws, qs1, _, links := seeded(t)
+	for _, f := range []url.Values{{"action": {"close"}}, {"action": {"open"}, "reason": {"Discussed (invented)."}}} {
+		if res, _ := h.post(workshopPath(ws.ID)+"/round", f); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("round %v: %d", f, res.StatusCode)
+		}
+	}
+	_, body := h.get(links[3].Path + "q/" + strconv.FormatInt(qs1[0].ID, 10))
+	if strings.Contains(body, "for You") || !strings.Contains(body, "for your curve") {
+		t.Errorf("Ole's page does not name his clipped curve as his: %q", regexp.MustCompile(`rises above the top of the chart[^<]*`).FindString(body))
 	}
 }

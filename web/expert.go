@@ -945,7 +945,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	}
 	var curves []chart.Curve
 	if own != nil {
-		curves = append(curves, chart.Curve{Label: "You", Role: chart.RoleExpert, Dist: *own})
+		curves = append(curves, chart.Curve{Label: "You", Prose: "your curve", Role: chart.RoleExpert, Dist: *own})
 		v.OwnCurve = true
 	}
 	id := "panel-q" + strconv.FormatInt(q.ID, 10)

@@ -2075,7 +2075,7 @@ func agreedCount(qs []record.Question) string {
 			n++
 		}
 	}
-	return strconv.Itoa(n) + " of " + strconv.Itoa(len(qs)) + " target questions have an agreed prior"
+	return strconv.Itoa(n) + " of " + strconv.Itoa(len(qs)) + " target " + plural(len(qs), "question", "questions") + " " + plural(n, "has", "have") + " an agreed prior"
 }
 
 // priorLabel writes a prior as Beta(α, β), with its scale when that is not

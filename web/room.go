@@ -141,7 +141,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if ws.Round > 1 {
 			verb = "revised"
 		}
-		v.Progress = strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " experts have " + verb + " this question in round " + strconv.Itoa(ws.Round) + " so far."
+		v.Progress = roomProgress(answered, active, verb, ws.Round)
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
 		src, err := s.snapshot(r.Context(), ws)
@@ -203,4 +203,17 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	}
 	v.Reasons = fb.reasons(0)
 	return nil
+}
+
+// roomProgress says how many of the active experts have answered (or,
+// from round 2, revised) the question in the open round: "2 of 4 experts
+// have revised this question in round 2 so far", "1 of 4 experts has …",
+// and "No expert has revised this question in round 2 yet." where "0 of 4
+// experts have" read as an empty table.
+func roomProgress(answered, active int, verb string, round int) string {
+	in := " this question in round " + strconv.Itoa(round)
+	if answered == 0 {
+		return "No expert has " + verb + in + " yet."
+	}
+	return strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " " + plural(active, "expert", "experts") + " " + plural(answered, "has", "have") + " " + verb + in + " so far."
 }

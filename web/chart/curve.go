@@ -12,6 +12,10 @@ import (
 // picture.
 type Curve struct {
 	Label string
+	// Prose names the curve in a sentence under the picture, where Label
+	// would read badly mid-sentence ("your curve" for the key's "You");
+	// empty means Label.
+	Prose string
 	Role  Role
 	Dist  Distribution
 	// Percentiles are the curve's 5th, 50th and 95th percentiles when

@@ -288,7 +288,11 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 		g.Lines = append(g.Lines, l)
 		g.percentiles = append(g.percentiles, sp[i].percentile)
 		if p.clipped {
-			g.ClippedBy = append(g.ClippedBy, c.Label)
+			name := c.Label
+			if c.Prose != "" {
+				name = c.Prose
+			}
+			g.ClippedBy = append(g.ClippedBy, name)
 		}
 	}
 
