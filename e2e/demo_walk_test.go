@@ -81,6 +81,7 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 		{"the overview's questions", wsURL + "/", "table.table-questions"},
 		{"the overview's panel", wsURL + "/", "table.table-roster"},
 		{"the pools the calibration page compares", wsURL + "/calibration", "#compare table"},
+		{"the report's panel", wsURL + "/report", "table.table-roster"},
 	} {
 		fac.open(c.url)
 		if n := fac.count(c.table + " tbody tr"); n < 2 {
@@ -92,6 +93,12 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 		}
 		if side := eval[int](fac, "the rows' cells", `Array.from(document.querySelectorAll(`+strconv.Quote(c.table+" tbody tr")+`)).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
 			t.Errorf("%s at 390 px: %d rows lay their cells side by side", c.name, side)
+		}
+		// Stacked, a cell after a row's first says what it is: a bare
+		// "active" or "Water utility (invented)" under a name reads as
+		// nothing in particular.
+		if bare := eval[[]string](fac, "unlabelled cells", `Array.from(document.querySelectorAll(`+strconv.Quote(c.table+" tbody tr")+`)).flatMap(r => Array.from(r.cells).slice(1).filter(c => c.getClientRects().length && c.innerText.trim() && c.colSpan < 2 && !c.dataset.label && !c.querySelector("form, a, button")).map(c => c.innerText.trim()))`); len(bare) > 0 {
+			t.Errorf("%s at 390 px: cells without a label: %q", c.name, bare)
 		}
 		shots.take(fac, "demo-table-"+strings.NewReplacer(" ", "-", "'", "").Replace(c.name)+"-390")
 	}
