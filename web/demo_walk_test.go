@@ -161,7 +161,9 @@ func TestExpertHomeSaysWhatALaterRoundAsks(t *testing.T) {
 		}
 	}
 	_, body := h.get(links[0].Path)
-	for _, want := range []string{"what the other experts said in round 1, without their names", next} {
+	// An answer from round 1 is tagged as the one that stands, not in the
+	// grey of "not answered yet".
+	for _, want := range []string{"what the other experts said in round 1, without their names", next, `<span class="tag tag-kept">your round 1 answer stands</span>`} {
 		if !strings.Contains(body, want) {
 			t.Errorf("round 2's home lacks %q", want)
 		}

@@ -54,6 +54,9 @@ type expertQuestionItem struct {
 	Answered   bool   // has a revision in the current round
 	AnsweredAt string // time of that revision
 	Earlier    bool   // answered only in an earlier round
+	// EarlierRound is the round of the latest such answer, the one that
+	// stands.
+	EarlierRound int
 }
 
 // expertQuestionView is one question's page.
@@ -459,6 +462,7 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 				it.Answered, it.AnsweredAt = true, rv.At.UTC().Format(timeLayout)
 			} else {
 				it.Earlier = true
+				it.EarlierRound = max(it.EarlierRound, rv.Round)
 			}
 		}
 		v.Questions = append(v.Questions, it)
