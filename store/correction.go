@@ -50,10 +50,7 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		return err
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		old, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, q.ID))
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", q.ID)
-		}
+		old, err := questionInTx(ctx, tx, q.ID)
 		if err != nil {
 			return err
 		}
@@ -116,10 +113,7 @@ func pick(q workshop.Question, fields []string) json.RawMessage {
 // pools and scores, kept in the record) or brings it back, with its event.
 func (db *DB) SetQuestionRetired(ctx context.Context, questionID int64, retired bool, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
-		q, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", questionID)
-		}
+		q, err := questionInTx(ctx, tx, questionID)
 		if err != nil {
 			return err
 		}

@@ -104,11 +104,7 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]worksho
 // writer, so no save slips in between.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
-		q, err := scanQuestion(tx.QueryRowContext(ctx,
-			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", questionID)
-		}
+		q, err := questionInTx(ctx, tx, questionID)
 		if err != nil {
 			return err
 		}
@@ -162,11 +158,7 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 // nothing.
 func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
-		q, err := scanQuestion(tx.QueryRowContext(ctx,
-			`SELECT `+questionColumns+` FROM questions WHERE id = ?`, questionID))
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", questionID)
-		}
+		q, err := questionInTx(ctx, tx, questionID)
 		if err != nil {
 			return err
 		}
@@ -193,6 +185,16 @@ func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason
 			At: now(), Reason: reason, Detail: string(detail),
 		})
 	})
+}
+
+// questionInTx reads question id inside tx, or the store's not-found
+// error when there is none.
+func questionInTx(ctx context.Context, tx *sql.Tx, id int64) (workshop.Question, error) {
+	q, err := scanQuestion(tx.QueryRowContext(ctx, `SELECT `+questionColumns+` FROM questions WHERE id = ?`, id))
+	if errors.Is(err, sql.ErrNoRows) {
+		return q, notFound("question", id)
+	}
+	return q, err
 }
 
 func scanQuestion(s scanner) (workshop.Question, error) {

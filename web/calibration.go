@@ -312,16 +312,8 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	// recorded as a reveal, with its reason.
 	reveal := f.Checked("reveal") || q.Revealed
 	reason := f.Text("reason", input.MaxLongText, reveal)
-	if f.OK() {
-		err := s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason)
-		switch {
-		case err == nil:
-		case isInputError(err):
-			f.Fail(err, nil)
-		case !s.notSaved(r, f, err):
-			s.fail(w, r, err)
-			return
-		}
+	if f.OK() && !s.formSaved(w, r, f, s.store.SetTrueValue(r.Context(), q.ID, value, reveal, reason), nil) {
+		return
 	}
 	if !f.OK() {
 		s.showCalibration(w, r, f.refusedStatus(), ws, calibrationForms{truthFor: q.ID, truth: f})
@@ -366,16 +358,8 @@ func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
 		}
 	}
 	reason := f.Text("reason", input.MaxLongText, on != q.LogScale)
-	if f.OK() {
-		err := s.store.SetLogScale(r.Context(), q.ID, on, reason)
-		switch {
-		case err == nil:
-		case isInputError(err):
-			f.Fail(err, nil)
-		case !s.notSaved(r, f, err):
-			s.fail(w, r, err)
-			return
-		}
+	if f.OK() && !s.formSaved(w, r, f, s.store.SetLogScale(r.Context(), q.ID, on, reason), nil) {
+		return
 	}
 	if !f.OK() {
 		s.showCalibration(w, r, f.refusedStatus(), ws, calibrationForms{scaleFor: q.ID, scale: f})
@@ -462,16 +446,9 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 			wt.ByExpert[e.ID] = x
 		}
 	}
-	if f.OK() {
-		err := s.store.SetWeights(r.Context(), &wt)
-		switch {
-		case err == nil:
-		case isInputError(err):
-			f.Fail(err, map[string]string{"weights": "scheme", "weights.by_expert": "scheme", "by_expert": "scheme"})
-		case !s.notSaved(r, f, err):
-			s.fail(w, r, err)
-			return
-		}
+	if f.OK() && !s.formSaved(w, r, f, s.store.SetWeights(r.Context(), &wt),
+		map[string]string{"weights": "scheme", "weights.by_expert": "scheme", "by_expert": "scheme"}) {
+		return
 	}
 	if !f.OK() {
 		af := newForm(nil)

@@ -243,6 +243,24 @@ func serverFault(r *http.Request, err error) bool {
 // the failure is the server's it logs it, puts the sentence on the form
 // and reports true: the caller shows the form again, typed values kept,
 // with f.refusedStatus() (503). Otherwise it does nothing.
+// formSaved sorts out the store's answer err to a facilitator's form f:
+// a refusal goes beside the fields (Form.Fail, with fields mapping the
+// store's field names to the form's), a fault on the server's side says
+// nothing was saved (notSaved), and the form is shown again by the
+// caller; anything else fails the request, and formSaved returns false
+// with the response written.
+func (s *Server) formSaved(w http.ResponseWriter, r *http.Request, f *Form, err error, fields map[string]string) bool {
+	switch {
+	case err == nil:
+	case isInputError(err):
+		f.Fail(err, fields)
+	case !s.notSaved(r, f, err):
+		s.fail(w, r, err)
+		return false
+	}
+	return true
+}
+
 func (s *Server) notSaved(r *http.Request, f *Form, err error) bool {
 	if !serverFault(r, err) {
 		return false
