@@ -13,35 +13,9 @@ import (
 // weights and pool, with the range and the pool given back on the
 // question's own scale. Invented answers on rare-event shares.
 func TestLogScaleIsTheUniformOnLogs(t *testing.T) {
-	probs := []float64{0.05, 0.5, 0.95}
-	answers := map[string]map[string][]float64{
-		"A": {"r1": {5e-7, 2e-6, 8e-6}, "r2": {1e-4, 5e-4, 2e-3}, "d": {4, 7, 10}},
-		"B": {"r1": {1e-7, 3e-6, 1e-4}, "r2": {1e-5, 1e-3, 1e-2}, "d": {3, 6, 14}},
-		"C": {"r1": {8e-6, 1e-5, 1.2e-5}, "r2": {1e-4, 1.2e-4, 1.4e-4}, "d": {8, 9, 10}},
-	}
-	truth := map[string]float64{"r1": 2e-6, "r2": 4e-4, "d": 6.5}
-	bounds := map[string][2]float64{"r1": {0, 1}, "r2": {0, 1}}
-	logs := map[string]bool{"r1": true, "r2": true}
-	var as, lnAs []SeedAssessment
-	lnTruth, lnBounds := map[string]float64{}, map[string][2]float64{}
-	for _, e := range []string{"A", "B", "C"} {
-		for q, v := range answers[e] {
-			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: v})
-			lv := append([]float64(nil), v...)
-			if logs[q] {
-				for i := range lv {
-					lv[i] = math.Log(lv[i])
-				}
-			}
-			lnAs = append(lnAs, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: lv})
-		}
-	}
-	for q, x := range truth {
-		lnTruth[q] = x
-		if logs[q] {
-			lnTruth[q] = math.Log(x)
-		}
-	}
+	c := newLogScaleCase()
+	as, lnAs, truth, lnTruth, bounds, logs := c.as, c.lnAs, c.truth, c.lnTruth, c.bounds, c.logs
+	lnBounds := map[string][2]float64{}
 	// On ln x a lower bound of 0 is −∞ and cuts nothing; an upper bound of
 	// 1 is 0.
 	lnBounds["r1"], lnBounds["r2"] = [2]float64{-1000, 0}, [2]float64{-1000, 0}
@@ -165,35 +139,9 @@ func TestLogScaleQuantilesThatMeetOnLogs(t *testing.T) {
 // so their upper bound of 1 cuts nothing and the logarithms are scored
 // without bounds). Invented answers, as in TestLogScaleIsTheUniformOnLogs.
 func TestLogScaleLeaveOneOutIsTheUniformOnLogs(t *testing.T) {
-	probs := []float64{0.05, 0.5, 0.95}
-	answers := map[string]map[string][]float64{
-		"A": {"r1": {5e-7, 2e-6, 8e-6}, "r2": {1e-4, 5e-4, 2e-3}, "d": {4, 7, 10}},
-		"B": {"r1": {1e-7, 3e-6, 1e-4}, "r2": {1e-5, 1e-3, 1e-2}, "d": {3, 6, 14}},
-		"C": {"r1": {8e-6, 1e-5, 1.2e-5}, "r2": {1e-4, 1.2e-4, 1.4e-4}, "d": {8, 9, 10}},
-	}
-	truth := map[string]float64{"r1": 2e-6, "r2": 4e-4, "d": 6.5}
-	logs := map[string]bool{"r1": true, "r2": true}
-	var as, lnAs []SeedAssessment
-	lnTruth := map[string]float64{}
-	for _, e := range []string{"A", "B", "C"} {
-		for q, v := range answers[e] {
-			as = append(as, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: v})
-			lv := append([]float64(nil), v...)
-			if logs[q] {
-				for i := range lv {
-					lv[i] = math.Log(lv[i])
-				}
-			}
-			lnAs = append(lnAs, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: lv})
-		}
-	}
-	for q, x := range truth {
-		lnTruth[q] = x
-		if logs[q] {
-			lnTruth[q] = math.Log(x)
-		}
-	}
-	got, err := LeaveOneOut(as, truth, map[string][2]float64{"r1": {0, 1}, "r2": {0, 1}}, ModelOptions{LogScale: logs}, nil)
+	c := newLogScaleCase()
+	as, lnAs, truth, lnTruth, logs := c.as, c.lnAs, c.truth, c.lnTruth, c.logs
+	got, err := LeaveOneOut(as, truth, c.bounds, ModelOptions{LogScale: logs}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -260,4 +208,50 @@ func TestLogScaleKeepsEachTrueValueInItsBin(t *testing.T) {
 			t.Errorf("%s: calibration %v on the log scale, %v on the uniform", e.Expert, e.Calibration, plain.Experts[i].Calibration)
 		}
 	}
+}
+
+// logScaleCase is the invented panel of the log-scale tests: three
+// experts on two rare-event shares on [0, 1] scored on the log scale (r1,
+// r2) and a repair time in days on the uniform (d), with the same
+// answers and true values as logarithms (lnAs, lnTruth) for the uniform
+// model on ln x.
+type logScaleCase struct {
+	as, lnAs       []SeedAssessment
+	truth, lnTruth map[string]float64
+	bounds         map[string][2]float64
+	logs           map[string]bool
+}
+
+func newLogScaleCase() logScaleCase {
+	probs := []float64{0.05, 0.5, 0.95}
+	answers := map[string]map[string][]float64{
+		"A": {"r1": {5e-7, 2e-6, 8e-6}, "r2": {1e-4, 5e-4, 2e-3}, "d": {4, 7, 10}},
+		"B": {"r1": {1e-7, 3e-6, 1e-4}, "r2": {1e-5, 1e-3, 1e-2}, "d": {3, 6, 14}},
+		"C": {"r1": {8e-6, 1e-5, 1.2e-5}, "r2": {1e-4, 1.2e-4, 1.4e-4}, "d": {8, 9, 10}},
+	}
+	c := logScaleCase{
+		truth:   map[string]float64{"r1": 2e-6, "r2": 4e-4, "d": 6.5},
+		lnTruth: map[string]float64{},
+		bounds:  map[string][2]float64{"r1": {0, 1}, "r2": {0, 1}},
+		logs:    map[string]bool{"r1": true, "r2": true},
+	}
+	for _, e := range []string{"A", "B", "C"} {
+		for q, v := range answers[e] {
+			c.as = append(c.as, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: v})
+			lv := append([]float64(nil), v...)
+			if c.logs[q] {
+				for i := range lv {
+					lv[i] = math.Log(lv[i])
+				}
+			}
+			c.lnAs = append(c.lnAs, SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: lv})
+		}
+	}
+	for q, x := range c.truth {
+		c.lnTruth[q] = x
+		if c.logs[q] {
+			c.lnTruth[q] = math.Log(x)
+		}
+	}
+	return c
 }
