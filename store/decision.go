@@ -50,7 +50,7 @@ func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 				return fmt.Errorf("store: set weights: %w", err)
 			}
 		}
-		id, err := insertWeights(ctx, tx, w.WorkshopID, string(w.Scheme), string(byExpert), w.Reason, at, basis)
+		id, err := insertWeights(ctx, tx, w.WorkshopID, string(w.Scheme), string(byExpert), w.Reason, at, basis, 0)
 		if err != nil {
 			return fmt.Errorf("store: set weights: %w", err)
 		}
@@ -68,13 +68,14 @@ func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 // insertWeights writes one weight set. A set without a basis leaves the
 // column out, so it can be written at a schema version before the basis
 // (the migration test writes data at every version).
-func insertWeights(ctx context.Context, tx *sql.Tx, workshopID int64, scheme, byExpert, reason string, at time.Time, basis any) (int64, error) {
+func insertWeights(ctx context.Context, tx *sql.Tx, workshopID int64, scheme, byExpert, reason string, at time.Time, basis any, id int64) (int64, error) {
 	q := `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at) VALUES (?, ?, ?, ?, ?)`
 	args := []any{workshopID, scheme, byExpert, reason, formatTime(at)}
 	if basis != nil {
 		q = `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at, basis) VALUES (?, ?, ?, ?, ?, ?)`
 		args = append(args, basis)
 	}
+	q, args = withID(q, id, args...)
 	res, err := tx.ExecContext(ctx, q, args...)
 	if err != nil {
 		return 0, err
@@ -252,7 +253,7 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		}
 		stored := *p
 		stored.Round, stored.At, stored.RoundOpen, stored.WeightSetID = round, at, open == 1, set.Int64
-		id, err := insertPrior(ctx, tx, stored, consensus, construction)
+		id, err := insertPrior(ctx, tx, stored, consensus, construction, 0)
 		if err != nil {
 			return err
 		}
@@ -298,7 +299,7 @@ func marshalConstruction(c *elicit.ConstructionInput) (any, error) {
 // insertPrior writes one agreed prior. A prior without a construction
 // leaves that column out, so it can be written at a schema version before
 // it (the migration test writes data at every version).
-func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consensus, construction any) (int64, error) {
+func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consensus, construction any, id int64) (int64, error) {
 	cols := `question_id, source, alpha, beta, lower, upper, consensus, rationale, round, round_open, weight_set_id, at`
 	marks := `?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?`
 	args := []any{p.QuestionID, string(p.Source), p.Dist.Alpha, p.Dist.Beta.Beta, p.Dist.Lower, p.Dist.Upper,
@@ -328,11 +329,12 @@ func insertPrior(ctx context.Context, tx *sql.Tx, p workshop.AgreedPrior, consen
 		marks += `, ?`
 		args = append(args, string(pooled))
 	}
-	res, err := tx.ExecContext(ctx, `INSERT INTO agreed_priors (`+cols+`) VALUES (`+marks+`)`, args...)
+	q, args := withID(`INSERT INTO agreed_priors (`+cols+`) VALUES (`+marks+`)`, id, args...)
+	res, err := tx.ExecContext(ctx, q, args...)
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
 	}
-	id, err := res.LastInsertId()
+	id, err = res.LastInsertId()
 	if err != nil {
 		return 0, fmt.Errorf("store: agree prior: %w", err)
 	}

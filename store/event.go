@@ -11,13 +11,19 @@ import (
 // insertEvent writes one event inside the transaction of the decision it
 // records.
 func insertEvent(ctx context.Context, tx *sql.Tx, e workshop.Event) error {
+	return insertEventAs(ctx, tx, e, 0)
+}
+
+// insertEventAs writes one event with the given id (an import keeping
+// the record's ids), or numbered by SQLite when id is 0.
+func insertEventAs(ctx context.Context, tx *sql.Tx, e workshop.Event, id int64) error {
 	var question any
 	if e.QuestionID != 0 {
 		question = e.QuestionID
 	}
-	_, err := tx.ExecContext(ctx,
-		`INSERT INTO events (workshop_id, question_id, kind, at, reason, detail) VALUES (?, ?, ?, ?, ?, ?)`,
+	q, args := withID(`INSERT INTO events (workshop_id, question_id, kind, at, reason, detail) VALUES (?, ?, ?, ?, ?, ?)`, id,
 		e.WorkshopID, question, string(e.Kind), formatTime(e.At), e.Reason, e.Detail)
+	_, err := tx.ExecContext(ctx, q, args...)
 	if err != nil {
 		return fmt.Errorf("store: record %s: %w", e.Kind, err)
 	}

@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"fmt"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -14,8 +15,12 @@ import (
 // Import adds the workshop in rec to the database as a new workshop and
 // returns its ID. The record is validated in full first (rec.Validate);
 // then everything is written in one transaction, so a bad record leaves
-// the database as it was. Every entity gets a new ID and every reference
-// is remapped, including expert IDs inside event details. Experts are
+// the database as it was. Where the database has none of the record's
+// IDs (a new database, or one holding only other workshops of the
+// database the record came from), every row keeps its ID, so the
+// record fingerprint's values stay the record's; otherwise every entity
+// gets a new ID and every reference is remapped, including expert IDs
+// inside event details. Experts are
 // imported without access tokens: the facilitator issues new links.
 // Each revision's fit is checked against a fresh fit of its answer
 // (record.ValidateFits) and the fresh one kept with it; pools are not
@@ -30,6 +35,13 @@ func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{},
 			weightSets: map[int64]int64{}}
 		var err error
+		// The record's own ids are kept when the database has none of
+		// them, so the record fingerprint, whose facts carry their ids,
+		// gives the same values as the record's (a restore into a new
+		// database, or next to workshops of the database it came from).
+		if imp.keep, err = idsFree(ctx, tx, rec); err != nil {
+			return err
+		}
 		if workshopID, err = imp.workshop(rec.Workshop); err != nil {
 			return err
 		}
@@ -76,14 +88,14 @@ func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 		}
 		for _, d := range rec.StudyData {
 			d.QuestionID = imp.questions[d.QuestionID]
-			if _, err := insertData(ctx, tx, d); err != nil {
+			if _, err := insertData(ctx, tx, d, imp.id(d.ID)); err != nil {
 				return fmt.Errorf("study data %d: %w", d.ID, err)
 			}
 		}
 		for _, e := range rec.Events {
 			e.WorkshopID, e.QuestionID = workshopID, imp.questions[e.QuestionID]
 			e.Detail = remapDetail(e.Detail, imp.experts, imp.revisions)
-			if err := insertEvent(ctx, tx, e); err != nil {
+			if err := insertEventAs(ctx, tx, e, imp.id(e.ID)); err != nil {
 				return err
 			}
 		}
@@ -104,9 +116,83 @@ type importer struct {
 	revisions map[int64]int64
 	// weightSets maps a record's weight set IDs to the new ones.
 	weightSets map[int64]int64
+	// keep is whether the rows keep the record's ids (idsFree).
+	keep bool
+}
+
+// id is the id a row of the record is written with: its own when the
+// import keeps the record's ids, else 0 (SQLite numbers it).
+func (imp importer) id(recordID int64) int64 {
+	if imp.keep {
+		return recordID
+	}
+	return 0
+}
+
+// withID makes an INSERT write the row's id when id > 0, instead of
+// letting SQLite number it.
+func withID(query string, id int64, args ...any) (string, []any) {
+	if id <= 0 {
+		return query, args
+	}
+	query = strings.Replace(query, " (", " (id, ", 1)
+	query = strings.Replace(query, "VALUES (", "VALUES (?, ", 1)
+	return query, append([]any{id}, args...)
+}
+
+// idsFree is whether every id the record gives its workshop, questions,
+// experts, revisions, weight sets, agreed priors, study data and events
+// is positive, unique in the record and unused in the database (the
+// workshop's also by a deleted workshop, whose id is never given again).
+func idsFree(ctx context.Context, tx *sql.Tx, rec record.Record) (bool, error) {
+	ids := map[string][]int64{"workshops": {rec.Workshop.ID}}
+	for _, q := range rec.Questions {
+		ids["questions"] = append(ids["questions"], q.ID)
+		for _, ap := range q.PriorHistory {
+			ids["agreed_priors"] = append(ids["agreed_priors"], ap.ID)
+		}
+	}
+	for _, e := range rec.Experts {
+		ids["experts"] = append(ids["experts"], e.ID)
+	}
+	for _, rv := range rec.Revisions {
+		ids["revisions"] = append(ids["revisions"], rv.ID)
+	}
+	for _, w := range rec.WeightHistory {
+		ids["weight_sets"] = append(ids["weight_sets"], w.ID)
+	}
+	for _, d := range rec.StudyData {
+		ids["study_data"] = append(ids["study_data"], d.ID)
+	}
+	for _, e := range rec.Events {
+		ids["events"] = append(ids["events"], e.ID)
+	}
+	var n int
+	err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM workshop_deletions WHERE workshop_id = ?`, rec.Workshop.ID).Scan(&n)
+	if err != nil || n > 0 {
+		return false, err
+	}
+	for table, list := range ids {
+		seen := make(map[int64]bool, len(list))
+		for _, id := range list {
+			if id <= 0 || seen[id] {
+				return false, nil
+			}
+			seen[id] = true
+			if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM `+table+` WHERE id = ?`, id).Scan(&n); err != nil || n > 0 {
+				return false, err
+			}
+		}
+	}
+	return true, nil
 }
 
 func (imp importer) insert(query string, args ...any) (int64, error) {
+	return imp.insertArgs(query, args)
+}
+
+// insertArgs is insert of a query and its arguments as withID gives them.
+func (imp importer) insertArgs(query string, args []any) (int64, error) {
 	res, err := imp.tx.ExecContext(imp.ctx, query, args...)
 	if err != nil {
 		return 0, err
@@ -115,9 +201,13 @@ func (imp importer) insert(query string, args ...any) (int64, error) {
 }
 
 func (imp importer) workshop(w workshop.Workshop) (int64, error) {
+	next := nextWorkshopID
+	if imp.keep {
+		next = strconv.FormatInt(w.ID, 10)
+	}
 	return imp.insert(
 		`INSERT INTO workshops (id, title, purpose, decision, notes, round, round_open, invented, archived, created)
-		 VALUES (`+nextWorkshopID+`, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 VALUES (`+next+`, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 		w.Title, w.Purpose, w.Decision, w.Notes, w.Round, boolInt(w.Open), boolInt(w.Invented), boolInt(w.Archived), formatTime(w.Created))
 }
 
@@ -130,13 +220,13 @@ func (imp importer) question(workshopID int64, q workshop.Question) error {
 	if err != nil {
 		return err
 	}
-	id, err := imp.insert(
+	id, err := imp.insertArgs(withID(
 		`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
 		 probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, retired, log_uniform_background)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, imp.id(q.ID),
 		workshopID, q.Position, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
 		probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed),
-		nullTime(q.RevealedAt), boolInt(q.Retired), boolInt(q.LogScale))
+		nullTime(q.RevealedAt), boolInt(q.Retired), boolInt(q.LogScale)))
 	if err != nil {
 		return fmt.Errorf("question %d: %w", q.ID, err)
 	}
@@ -145,10 +235,10 @@ func (imp importer) question(workshopID int64, q workshop.Question) error {
 }
 
 func (imp importer) expert(workshopID int64, e workshop.Expert) error {
-	id, err := imp.insert(
+	id, err := imp.insertArgs(withID(
 		`INSERT INTO experts (workshop_id, name, affiliation, expertise, token_hash, revoked, created)
-		 VALUES (?, ?, ?, ?, NULL, ?, ?)`,
-		workshopID, e.Name, e.Affiliation, e.Expertise, boolInt(e.Revoked), formatTime(e.Created))
+		 VALUES (?, ?, ?, ?, NULL, ?, ?)`, imp.id(e.ID),
+		workshopID, e.Name, e.Affiliation, e.Expertise, boolInt(e.Revoked), formatTime(e.Created)))
 	if err != nil {
 		return fmt.Errorf("expert %d: %w", e.ID, err)
 	}
@@ -166,7 +256,7 @@ func (imp importer) revision(rv workshop.Revision) error {
 		return err
 	}
 	rv.QuestionID, rv.ExpertID = imp.questions[rv.QuestionID], imp.experts[rv.ExpertID]
-	id, err := insertRevision(imp.ctx, imp.tx, rv, values, counts)
+	id, err := insertRevision(imp.ctx, imp.tx, rv, values, counts, imp.id(rv.ID))
 	if err != nil {
 		return fmt.Errorf("revision %d: %w", rv.ID, err)
 	}
@@ -218,7 +308,7 @@ func (imp importer) weights(workshopID int64, w workshop.Weights) error {
 	if err != nil {
 		return err
 	}
-	id, err := insertWeights(imp.ctx, imp.tx, workshopID, string(w.Scheme), string(b), w.Reason, w.At, basis)
+	id, err := insertWeights(imp.ctx, imp.tx, workshopID, string(w.Scheme), string(b), w.Reason, w.At, basis, imp.id(w.ID))
 	if err != nil {
 		return fmt.Errorf("weight set %d: %w", w.ID, err)
 	}
@@ -272,7 +362,7 @@ func (imp importer) prior(ap workshop.AgreedPrior) error {
 		}
 		ap.Pooled = pooled
 	}
-	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus, construction); err != nil {
+	if _, err := insertPrior(imp.ctx, imp.tx, ap, consensus, construction, imp.id(ap.ID)); err != nil {
 		return fmt.Errorf("agreed prior %d: %w", ap.ID, err)
 	}
 	return nil

@@ -97,7 +97,7 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 	id, err := insertRevision(ctx, tx, workshop.Revision{
 		QuestionID: r.QuestionID, ExpertID: r.ExpertID, Round: round, At: at,
 		Reason: r.Reason, Answer: r.Answer, EnteredBy: r.EnteredBy, Channel: r.Channel, Kept: r.Kept,
-	}, values, counts)
+	}, values, counts, 0)
 	if err != nil {
 		return err
 	}
@@ -179,18 +179,18 @@ func (db *DB) SaveImportedRevisions(ctx context.Context, workshopID int64, rs []
 // it is workshop.ErrRevoked.
 var ErrRevoked = workshop.ErrRevoked
 
-func insertRevision(ctx context.Context, tx *sql.Tx, r workshop.Revision, values, counts string) (int64, error) {
+func insertRevision(ctx context.Context, tx *sql.Tx, r workshop.Revision, values, counts string, id int64) (int64, error) {
 	a := r.Answer
-	res, err := tx.ExecContext(ctx,
-		`INSERT INTO revisions (question_id, expert_id, round, at, reason,
+	q, args := withID(`INSERT INTO revisions (question_id, expert_id, round, at, reason,
 		 answer_values, lowest, highest, best, confidence, counts, percent, entered_by, channel)
-		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+		 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, id,
 		r.QuestionID, r.ExpertID, r.Round, formatTime(r.At), r.Reason,
 		values, a.Lowest, a.Highest, a.Best, a.Confidence, counts, boolInt(a.Percent), string(enteredBy(r.EnteredBy)), string(r.Channel))
+	res, err := tx.ExecContext(ctx, q, args...)
 	if err != nil {
 		return 0, fmt.Errorf("store: save revision: %w", err)
 	}
-	id, err := res.LastInsertId()
+	id, err = res.LastInsertId()
 	if err != nil {
 		return 0, fmt.Errorf("store: save revision: %w", err)
 	}

@@ -59,7 +59,7 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		}
 		stored := *d
 		stored.At = at
-		id, err := insertData(ctx, tx, stored)
+		id, err := insertData(ctx, tx, stored, 0)
 		if err != nil {
 			return err
 		}
@@ -79,10 +79,10 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 	})
 }
 
-func insertData(ctx context.Context, tx *sql.Tx, d workshop.StudyData) (int64, error) {
-	res, err := tx.ExecContext(ctx,
-		`INSERT INTO study_data (question_id, successes, trials, source, observed_on, at) VALUES (?, ?, ?, ?, ?, ?)`,
+func insertData(ctx context.Context, tx *sql.Tx, d workshop.StudyData, id int64) (int64, error) {
+	q, args := withID(`INSERT INTO study_data (question_id, successes, trials, source, observed_on, at) VALUES (?, ?, ?, ?, ?, ?)`, id,
 		d.QuestionID, d.Successes, d.Trials, d.Source, d.ObservedOn, formatTime(d.At))
+	res, err := tx.ExecContext(ctx, q, args...)
 	if err != nil {
 		return 0, fmt.Errorf("store: record data: %w", err)
 	}

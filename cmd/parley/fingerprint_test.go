@@ -205,3 +205,72 @@ func TestFingerprintBadInput(t *testing.T) {
 		}
 	}
 }
+
+// A record restored from its export into another database shows the
+// values the room noted: the import keeps the record's ids where the
+// database has none of them, as in a new database, or one the exports of
+// the same database's other workshops were restored into, in any order.
+func TestFingerprintSurvivesARestore(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	dir := t.TempDir()
+	export := func(db, workshop, name string) (file, fingerprint string) {
+		t.Helper()
+		file = filepath.Join(dir, name)
+		if code, _, errs := run("export", "--db", db, "--workshop", workshop, "--out", file); code != exitOK {
+			t.Fatalf("export %s of %s: %s", workshop, filepath.Base(db), errs)
+		}
+		b, err := os.ReadFile(file)
+		check(t, err)
+		rec, err := record.Parse(strings.NewReader(string(b)))
+		check(t, err)
+		return file, rec.Fingerprint
+	}
+	importInto := func(db, file string) string {
+		t.Helper()
+		code, out, errs := run("import", "--db", db, "--in", file)
+		if code != exitOK {
+			t.Fatalf("import %s: %s", filepath.Base(file), errs)
+		}
+		return strings.TrimSpace(out)
+	}
+	// The source database holds two workshops: the first, and a copy of
+	// it imported beside it (so its ids follow the first's).
+	first, firstPrint := export(path, strconv.FormatInt(wid, 10), "first.json")
+	second := importInto(path, first)
+	secondFile, secondPrint := export(path, second, "second.json")
+	if secondPrint == firstPrint {
+		t.Fatal("the copy beside the first has the first's ids and fingerprint; the test needs another")
+	}
+
+	// Restored into a new database, the second first.
+	restored := filepath.Join(t.TempDir(), "restored.db")
+	got := importInto(restored, secondFile)
+	if got != second {
+		t.Errorf("the second workshop restored as %s, want its own id %s", got, second)
+	}
+	if _, fp := export(restored, got, "second-again.json"); fp != secondPrint {
+		t.Errorf("the second workshop restored alone into a new database: fingerprint %s, its record's %s", fp, secondPrint)
+	}
+	if got := importInto(restored, first); got != strconv.FormatInt(wid, 10) {
+		t.Errorf("the first workshop restored as %s, want its own id %d", got, wid)
+	}
+	if _, fp := export(restored, strconv.FormatInt(wid, 10), "first-again.json"); fp != firstPrint {
+		t.Errorf("the first workshop restored beside the second: fingerprint %s, its record's %s", fp, firstPrint)
+	}
+	if v, _ := roundOneValue(t, filepath.Join(dir, "second-again.json")); v != mustRoundOne(t, secondFile) {
+		t.Errorf("round 1's close after the restore reads %s, the room noted %s", v, mustRoundOne(t, secondFile))
+	}
+
+	// Where the database already uses the record's ids, the import
+	// numbers the rows anew, and the imported workshop's values are its
+	// own (the record file keeps the original's).
+	if again := importInto(restored, secondFile); again == second {
+		t.Errorf("a second import of the same record kept the ids %s already taken", again)
+	}
+}
+
+func mustRoundOne(t *testing.T, file string) string {
+	t.Helper()
+	v, _ := roundOneValue(t, file)
+	return v
+}
