@@ -93,21 +93,7 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 }
 
 // pick is the JSON object of q's named fields, by their JSON names.
-func pick(q workshop.Question, fields []string) json.RawMessage {
-	var all map[string]json.RawMessage
-	b, _ := json.Marshal(q)
-	_ = json.Unmarshal(b, &all)
-	out := map[string]json.RawMessage{}
-	for _, f := range fields {
-		if v, ok := all[f]; ok {
-			out[f] = v
-		} else {
-			out[f] = json.RawMessage("null")
-		}
-	}
-	b, _ = json.Marshal(out)
-	return b
-}
+func pick(q workshop.Question, fields []string) json.RawMessage { return q.Fields(fields) }
 
 // SetQuestionRetired retires a question (hidden from experts, left out of
 // pools and scores, kept in the record) or brings it back, with its event.

@@ -51,6 +51,7 @@ func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
 		}
 		if err := insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: q.WorkshopID, QuestionID: id, Kind: workshop.EventQuestionAdded, At: now(),
+			Detail: string(q.Definition()),
 		}); err != nil {
 			return err
 		}

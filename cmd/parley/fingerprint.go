@@ -65,6 +65,15 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 		}
 		own = err
 	}
+	// The questions' own rows, which are not chained, against their
+	// chained events: a question changed without an event is reported
+	// as the chain's disagreement is.
+	disagrees := "the file's own chain disagrees with its facts"
+	if own == nil {
+		if own = rec.CheckDefinitions(); own != nil {
+			disagrees = "a question is not what its events in the decision log give"
+		}
+	}
 	w := rec.Workshop
 	fmt.Fprintf(stdout, "Workshop %d, %q: record fingerprints (the first 64 bits of each value)\n", w.ID, w.Title)
 	if noted == nil {
@@ -73,7 +82,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 		}
 		fmt.Fprintf(stdout, "now, after all %d facts: %s (in full %s)\n", len(c.Links), c.Head().Short(), c.Head().Hex())
 		if own != nil {
-			fmt.Fprintf(stderr, "parley fingerprint: the file's own chain disagrees with its facts: %v\n", own)
+			fmt.Fprintf(stderr, "parley fingerprint: %s: %v\n", disagrees, own)
 			return exitFailure
 		}
 		return exitOK
@@ -82,7 +91,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	if !found {
 		msg := fmt.Sprintf("%s is not a fingerprint of this record at any point: either the record was changed after the value was noted, or the value was noted from another workshop's record", shortOf(noted))
 		if own != nil {
-			msg += fmt.Sprintf("; the file's own chain also disagrees with its facts: %v", own)
+			msg += fmt.Sprintf("; also, %s: %v", disagrees, own)
 		}
 		return fail(stderr, "fingerprint", errors.New(msg))
 	}
@@ -94,7 +103,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			shortOf(noted), factWords(l), when(l), i+1, len(c.Links))
 	}
 	if own != nil {
-		fmt.Fprintf(stderr, "parley fingerprint: but the file's own chain disagrees with its facts later on: %v\n", own)
+		fmt.Fprintf(stderr, "parley fingerprint: but %s: %v\n", disagrees, own)
 	}
 	return exitOK
 }

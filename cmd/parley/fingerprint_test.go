@@ -274,3 +274,31 @@ func mustRoundOne(t *testing.T, file string) string {
 	v, _ := roundOneValue(t, file)
 	return v
 }
+
+// A question's bounds changed in the database without an event: the
+// chain, which does not cover the questions' rows, is consistent, but
+// parley fingerprint says the question is not what its events give
+// (exit 1) and import refuses the record.
+func TestFingerprintQuestionChangedWithoutAnEvent(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	if _, err := raw.Exec(`UPDATE questions SET upper = 0.9 WHERE id = (SELECT MIN(id) FROM questions WHERE workshop_id = ?)`, wid); err != nil {
+		t.Fatal(err)
+	}
+	check(t, raw.Close())
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	code, out, errs := run("fingerprint", "--in", file)
+	if code != exitFailure || !strings.Contains(out, "after round 1 closed") ||
+		!strings.Contains(errs, "a question is not what its events in the decision log give: elicit: questions[0].upper: "+string(record.RuleDefinitionMismatch)) {
+		t.Errorf("fingerprint: exit %d, %q %q", code, out, errs)
+	}
+	code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", file)
+	if code != exitBadInput || !strings.Contains(errs, "questions[0]") {
+		t.Errorf("import: exit %d: %s", code, errs)
+	}
+}

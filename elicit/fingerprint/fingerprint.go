@@ -66,7 +66,9 @@
 // withheld (each withholding is a chained event), and a weight set's
 // basis (computed from chained revisions and from true values the record
 // shows only once revealed). Questions, experts and the workshop's own
-// text can be corrected, each correction with its chained event.
+// text can be corrected, each correction with its chained event; a
+// question's definition is its question_added event's detail, and
+// record.CheckDefinitions holds its row to its events.
 //
 // testdata/fingerprint/chain.py recomputes the chain of a record file
 // with Python's standard library alone.

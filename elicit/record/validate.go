@@ -235,8 +235,12 @@ func (r Record) validate(fits []elicit.Fit) error {
 	}
 	// Last, so that every fact is otherwise sound: a caller that reads
 	// the chain alone (parley fingerprint) can tell a changed fact from a
-	// broken record.
-	return r.CheckChain()
+	// broken record. The questions' own rows are then checked against
+	// their chained events.
+	if err := r.CheckChain(); err != nil {
+		return err
+	}
+	return r.CheckDefinitions()
 }
 
 // checkConsensusFit checks that a prior agreed from a consensus judgement

@@ -1,0 +1,115 @@
+package record
+
+import (
+	"encoding/json"
+	"fmt"
+	"reflect"
+	"slices"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// RuleDefinitionMismatch is broken by a question whose definition (its
+// bounds, format, probabilities, scoring, true value once revealed) is
+// not the one its chained events give: its question_added event's
+// definition with each later correction, change of background and reveal
+// applied.
+const RuleDefinitionMismatch elicit.Rule = "must be what the question's events in the decision log give (the question was changed without an event)"
+
+// CheckDefinitions checks each question against its chained events: a
+// question whose question_added event carries its definition
+// (workshop.Question.Definition; events recorded before it did carry
+// none and their questions are not checked) must have the definition
+// that event, the question_edited events' "after" values, the
+// calibration_background_set events and the truth_revealed events give,
+// in the log's order. The chain makes the events tamper-evident; this
+// binds the questions' own rows, which are not chained, to them.
+func (r Record) CheckDefinitions() error {
+	for i, q := range r.Questions {
+		state, fields, ok := r.replayDefinition(q.ID)
+		if !ok {
+			continue
+		}
+		var now map[string]any
+		if json.Unmarshal(q.Question.Fields(fields), &now) != nil {
+			continue
+		}
+		for _, f := range fields {
+			if f == "true_value" && !q.Revealed {
+				continue
+			}
+			if !reflect.DeepEqual(state[f], now[f]) {
+				return inputErr(fmt.Sprintf("questions[%d].%s", i, f), RuleDefinitionMismatch,
+					"the record has %s, its events give %s", jsonText(now[f]), jsonText(state[f]))
+			}
+		}
+	}
+	return nil
+}
+
+// replayDefinition is question id's definition as its events give it,
+// the fields it covers, and ok false when its question_added event
+// carries none.
+func (r Record) replayDefinition(id int64) (map[string]any, []string, bool) {
+	var state map[string]any
+	var fields []string
+	set := func(detail string, key string) {
+		var d map[string]any
+		if json.Unmarshal([]byte(detail), &d) != nil {
+			return
+		}
+		if key != "" {
+			if v, ok := d[key]; ok {
+				d = map[string]any{key: v}
+			} else {
+				return
+			}
+		}
+		for k, v := range d {
+			state[k] = v
+			if !slices.Contains(fields, k) {
+				fields = append(fields, k)
+			}
+		}
+	}
+	for _, e := range r.Events {
+		if e.QuestionID != id {
+			continue
+		}
+		switch {
+		case e.Kind == workshop.EventQuestionAdded:
+			var d map[string]any
+			if json.Unmarshal([]byte(e.Detail), &d) != nil || d["lower"] == nil {
+				return nil, nil, false
+			}
+			state = map[string]any{}
+			set(e.Detail, "")
+		case state == nil:
+		case e.Kind == workshop.EventQuestionEdited:
+			var d struct {
+				After json.RawMessage `json:"after"`
+			}
+			if json.Unmarshal([]byte(e.Detail), &d) == nil {
+				set(string(d.After), "")
+			}
+		case e.Kind == workshop.EventScaleSet:
+			set(e.Detail, "log_uniform_background")
+		case e.Kind == workshop.EventTruthRevealed:
+			set(e.Detail, "true_value")
+		}
+	}
+	if state == nil {
+		return nil, nil, false
+	}
+	// A background set off reads as the field left out.
+	if v, ok := state["log_uniform_background"]; ok && v == false {
+		state["log_uniform_background"] = nil
+	}
+	return state, fields, true
+}
+
+func jsonText(v any) string {
+	b, _ := json.Marshal(v)
+	return string(b)
+}
