@@ -31,7 +31,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	var noted []byte
 	if *check != "" {
 		var err error
-		if noted, err = fingerprint.ParseNoted("check", *check); err != nil {
+		if noted, err = fingerprint.ParseNoted("--check", *check); err != nil {
 			return fail(stderr, "fingerprint", err)
 		}
 	}
@@ -54,6 +54,11 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	rec, err := record.Decode(r)
 	if err != nil {
 		return fail(stderr, "fingerprint", err)
+	}
+	// Any JSON object decodes; one without a workshop is not a record
+	// (its "fingerprint" would be h₀ of workshop 0).
+	if rec.Workshop.ID <= 0 || rec.Workshop.Created.IsZero() {
+		return fail(stderr, "fingerprint", badInput("in", "the file is not a workshop's record: it has no workshop.id and workshop.created"))
 	}
 	c := fingerprint.Of(rec.Facts())
 	// The record's own chain, if it carries one, against its facts.

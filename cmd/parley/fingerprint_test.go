@@ -187,17 +187,20 @@ func TestFingerprintBadInput(t *testing.T) {
 	}
 	notJSON := filepath.Join(t.TempDir(), "notes.txt")
 	check(t, os.WriteFile(notJSON, []byte("3f2a 91c0 7be4 0d15\n"), 0o644))
+	emptyJSON := filepath.Join(t.TempDir(), "empty.json")
+	check(t, os.WriteFile(emptyJSON, []byte("{}\n"), 0o644))
 	for _, tt := range []struct {
 		args []string
 		want string
 	}{
-		{[]string{"--check", "3f2a 91c0 7be4", "--in", file}, "check: must be 16 hex digits"},
-		{[]string{"--check", "3f2a 91c0 7be4 0d1x", "--in", file}, "check: must be 16 hex digits"},
-		{[]string{"--check", "3f2a-91c0-7be4-0d15", "--in", file}, "check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a 91c0 7be4", "--in", file}, "--check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a 91c0 7be4 0d1x", "--in", file}, "--check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a-91c0-7be4-0d15", "--in", file}, "--check: must be 16 hex digits"},
 		{[]string{"--in", file + ".missing"}, "--in:"},
 		{[]string{"--check", "3f2a 91c0 7be4 0d15"}, "--in: a JSON record file is required"},
 		{[]string{"--in", notJSON}, "record: " + string(record.RuleJSON)},
 		{[]string{file}, "unexpected argument"},
+		{[]string{"--in", emptyJSON}, "--in: the file is not a workshop's record"},
 	} {
 		code, out, errs := run(append([]string{"fingerprint"}, tt.args...)...)
 		if code != exitBadInput || out != "" || !strings.Contains(errs, tt.want) || strings.Count(errs, "\n") != 1 {
