@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -15,7 +16,8 @@ import (
 // true value revealed) reads back; one changed in the database without
 // an event (its bounds, its background, its revealed true value) is
 // refused by the record's reader, naming the field: the question's rows
-// are not chained, its events are.
+// are not chained, its events are. So is an expert revoked or let back
+// without an event (a revoked expert's answers leave the pool).
 func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
@@ -32,6 +34,15 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	must(t, db.EditQuestion(ctx, edited, "clearer wording"))
 	must(t, db.SetLogScale(ctx, cal.ID, true, "counts span three decades"))
 	must(t, db.SetTrueValue(ctx, cal.ID, 420, true, "the inspection report"))
+	var experts []workshop.Expert
+	for _, name := range []string{"Odile (invented)", "Piet (invented)"} {
+		e := workshop.Expert{WorkshopID: w.ID, Name: name}
+		must(t, db.AddExpert(ctx, &e, []byte("token-"+name)))
+		experts = append(experts, e)
+	}
+	must(t, db.RevokeExpert(ctx, experts[0].ID, "left the panel"))
+	must(t, db.RevokeExpert(ctx, experts[1].ID, "lost their link"))
+	must(t, db.ReissueToken(ctx, experts[1].ID, []byte("new token"), "lost their link"))
 	parse := func() error {
 		_, err := record.Parse(bytes.NewReader(exportJSON(t, db, w.ID)))
 		return err
@@ -44,16 +55,16 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		{`UPDATE questions SET log_uniform_background = 0 WHERE id = ?`, "questions[1].log_uniform_background"},
 		{`UPDATE questions SET true_value = 400 WHERE id = ?`, "questions[1].true_value"},
 		{`UPDATE questions SET probs = '[0.1,0.5,0.9]' WHERE id = ?`, "questions[0].probs"},
+		{`UPDATE experts SET revoked = 0 WHERE id = ?`, "experts[0].revoked"},
+		{`UPDATE experts SET revoked = 1 WHERE id = ?`, "experts[1].revoked"},
 	} {
-		id := target.ID
-		if c.field[10] == '1' {
-			id = cal.ID
-		}
+		row, col, _ := strings.Cut(c.field, ".")
+		id := map[string]int64{"questions[0]": target.ID, "questions[1]": cal.ID, "experts[0]": experts[0].ID, "experts[1]": experts[1].ID}[row]
+		table, _, _ := strings.Cut(row, "[")
 		tx, err := db.w.BeginTx(ctx, nil)
 		must(t, err)
 		var was any
-		col := c.field[len("questions[0]."):]
-		must(t, tx.QueryRowContext(ctx, `SELECT `+col+` FROM questions WHERE id = ?`, id).Scan(&was))
+		must(t, tx.QueryRowContext(ctx, `SELECT `+col+` FROM `+table+` WHERE id = ?`, id).Scan(&was))
 		_, err = tx.ExecContext(ctx, c.update, id)
 		must(t, err)
 		must(t, tx.Commit())
@@ -61,7 +72,7 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		if err := parse(); !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != record.RuleDefinitionMismatch {
 			t.Errorf("%s: the record reads with %v, want %s refused (%s)", c.update, err, c.field, record.RuleDefinitionMismatch)
 		}
-		_, err = db.w.ExecContext(ctx, `UPDATE questions SET `+col+` = ? WHERE id = ?`, was, id)
+		_, err = db.w.ExecContext(ctx, `UPDATE `+table+` SET `+col+` = ? WHERE id = ?`, was, id)
 		must(t, err)
 		if err := parse(); err != nil {
 			t.Fatalf("set back after %s: %v", c.update, err)

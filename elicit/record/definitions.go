@@ -14,10 +14,15 @@ import (
 // bounds, format, probabilities, scoring, true value once revealed) is
 // not the one its chained events give: its question_added event's
 // definition with each later correction, change of background and reveal
-// applied.
-const RuleDefinitionMismatch elicit.Rule = "must be what the question's events in the decision log give (the question was changed without an event)"
+// applied; or by an expert whose revocation, which keeps their answers
+// out of the pool, is not the one their expert_revoked and
+// token_reissued events give.
+const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
 
-// CheckDefinitions checks each question against its chained events: a
+// CheckDefinitions checks each expert's revocation and each question
+// against their chained events. An expert named by an expert_added event
+// must be revoked as their expert_revoked and token_reissued events give.
+// A
 // question whose question_added event carries its definition
 // (workshop.Question.Definition; events recorded before it did carry
 // none and their questions are not checked) must have the definition
@@ -26,6 +31,12 @@ const RuleDefinitionMismatch elicit.Rule = "must be what the question's events i
 // in the log's order. The chain makes the events tamper-evident; this
 // binds the questions' own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
+	for i, e := range r.Experts {
+		if revoked, ok := r.replayRevoked(e.ID); ok && revoked != e.Revoked {
+			return inputErr(fmt.Sprintf("experts[%d].revoked", i), RuleDefinitionMismatch,
+				"the record has %t, the expert's events give %t", e.Revoked, revoked)
+		}
+	}
 	for i, q := range r.Questions {
 		state, fields, ok := r.replayDefinition(q.ID)
 		if !ok {
@@ -107,6 +118,30 @@ func (r Record) replayDefinition(id int64) (map[string]any, []string, bool) {
 		state["log_uniform_background"] = nil
 	}
 	return state, fields, true
+}
+
+// replayRevoked is whether expert id is revoked as the events give it:
+// added (expert_added naming them) not revoked, each expert_revoked
+// revoking and each token_reissued lifting it; ok false when no
+// expert_added event names them.
+func (r Record) replayRevoked(id int64) (revoked, ok bool) {
+	for _, e := range r.Events {
+		var d struct {
+			ExpertID int64 `json:"expert_id"`
+		}
+		if json.Unmarshal([]byte(e.Detail), &d) != nil || d.ExpertID != id {
+			continue
+		}
+		switch e.Kind {
+		case workshop.EventExpertAdded:
+			revoked, ok = false, true
+		case workshop.EventExpertRevoked:
+			revoked = true
+		case workshop.EventTokenReissued:
+			revoked = false
+		}
+	}
+	return revoked, ok
 }
 
 func jsonText(v any) string {
