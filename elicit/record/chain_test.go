@@ -39,9 +39,12 @@ func chainRecords(t *testing.T) map[string]Record {
 	src.Revisions[2].At = at(3, 0, 123456789)
 	src.Revisions[3].EnteredBy, src.Revisions[3].Channel = workshop.ByFacilitator, workshop.ChannelPhone
 	src.Priors[0].WeightSetID = 71
-	src.Priors[0].Pooled = []int64{32, 33, 35} // the latest of each expert on question 11, as a pool names them
-	src.Priors[0].Dist = elicit.Unit(elicit.Beta{Alpha: 4.250028395008177, Beta: 17.114528803222143}) // that pool's single Beta, as Validate computes it
-	src.Revisions[0].Answer.Values[0] = 0.05000000000000001 // a value one ulp from its decimal neighbour
+	// The prior names the revisions it pooled (the latest of each expert
+	// on question 11) with that pool's single Beta, as Validate computes
+	// it; a value one ulp from its decimal neighbour.
+	src.Priors[0].Pooled = []int64{32, 33, 35}
+	src.Priors[0].Dist = elicit.Unit(elicit.Beta{Alpha: 4.250028395008177, Beta: 17.114528803222143})
+	src.Revisions[0].Answer.Values[0] = 0.05000000000000001
 	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20, Lower: 0, Upper: 1}
 	c, err := elicit.Construct(in)
 	if err != nil {
