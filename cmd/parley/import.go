@@ -14,7 +14,7 @@ import (
 )
 
 func init() {
-	command("import", "add a workshop from an exported JSON record (--db, --in); prints its new ID", runImport)
+	command("import", "add a workshop from an exported JSON record (--db, --in); prints its ID (the record's own where the database has none of its ids)", runImport)
 }
 
 func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
