@@ -314,3 +314,24 @@ func TestCountsAgreeWithTheirNumbers(t *testing.T) {
 		t.Errorf("Ole's page does not name his clipped curve as his: %q", regexp.MustCompile(`rises above the top of the chart[^<]*`).FindString(body))
 	}
 }
+
+// TestSteadinessPictureWritesTheTablesShifts: the demo's steadiness
+// picture wrote each rerun's largest shift to two figures, so three rows
+// read 0.011 beside a table saying 0.01109, 0.01109 and 0.01113. The
+// picture's column writes the table's figures.
+func TestSteadinessPictureWritesTheTablesShifts(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	_, body := h.get(calibrationPath(ws.ID))
+	cells := func(re string) []string {
+		var out []string
+		for _, m := range regexp.MustCompile(re).FindAllStringSubmatch(body, -1) {
+			out = append(out, m[1])
+		}
+		return out
+	}
+	picture := cells(`<text class="steady-shift"[^>]*>([^<]+)</text>`)
+	table := cells(`<td class="num" data-label="largest shift">([^<]+)</td>`)
+	if len(table) < 2 || strings.Join(picture, " ") != strings.Join(table, " ") {
+		t.Errorf("the demo's one target question: the picture's shifts read %q, the table's %q", picture, table)
+	}
+}

@@ -159,7 +159,9 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 	for i, r := range t.Rows {
 		shift, value := "", ""
 		if r.Pool != nil && isFinite(r.Shift) {
-			shift, value = formatSig(r.Shift, 2), fmt.Sprint(r.Shift)
+			// The table's figures: at two, three rows of the demo read
+			// 0.011 beside a table of 0.01113 and others.
+			shift, value = FormatValue(r.Shift), fmt.Sprint(r.Shift)
 			if r.Shift > largest {
 				largest, which = r.Shift, r.Label
 			}
@@ -175,8 +177,6 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 		"(%s to %s, median %s). At the right, the largest move of any of the three points, as a fraction of the question's range.",
 		t.Title, FormatValue(t.Full[0]), FormatValue(t.Full[2]), FormatValue(t.Full[1]))
 	if largest >= 0 {
-		// The table's figures: at the row labels' two, the largest read
-		// 0.011 beside other rows of 0.011.
 		m.Desc += fmt.Sprintf(" The largest is %s, %s.", FormatValue(largest), which)
 	}
 	return m
