@@ -134,3 +134,40 @@ func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
 		}
 	}
 }
+
+// TestSteadinessPictureOnAPhone: on a phone the demo's steadiness picture
+// (the calibration page's "How steady the weighted pool is") was drawn
+// 34rem wide inside a box that scrolled sideways, its "largest shift"
+// column off the screen's edge. It has a compact drawing now, as the
+// other pictures do: every row's label and shift on the screen, none
+// smaller than 11 px, nothing to scroll.
+func TestSteadinessPictureOnAPhone(t *testing.T) {
+	site := startSite(t)
+	ctx := context.Background()
+	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
+		t.Fatal(err)
+	}
+	ws, _ := site.DB.Workshops(ctx)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(390, 844, true)
+	fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/calibration")
+	if n := fac.count(".chart-steadiness .steady-shift"); n == 0 {
+		t.Fatal("the calibration page has no steadiness picture")
+	}
+	if scroll := eval[[]string](fac, "the picture's boxes", `Array.from(document.querySelectorAll(".chart-steadiness, .chart-steadiness *")).filter(e => e.getClientRects().length && e.scrollWidth > e.clientWidth + 1 && !(e instanceof SVGElement)).map(e => e.tagName + "." + e.className + " " + e.scrollWidth + ">" + e.clientWidth)`); len(scroll) > 0 {
+		t.Errorf("at 390 px the steadiness picture scrolls sideways: %q", scroll)
+	}
+	shown := eval[[]string](fac, "the rows' words", `Array.from(document.querySelectorAll(".chart-steadiness .steady-label, .chart-steadiness .steady-shift")).filter(e => e.getClientRects().length).map(e => { const b = e.getBoundingClientRect(); return (b.left >= 0 && b.right <= 390.5 ? "" : "off the screen: ") + (b.height < 11 ? "under 11 px: " : "") + e.textContent.trim(); })`)
+	if len(shown) < 10 {
+		t.Fatalf("the picture shows %d row labels and shifts: %q", len(shown), shown)
+	}
+	for _, s := range shown {
+		if strings.HasPrefix(s, "off the screen") || strings.HasPrefix(s, "under 11 px") {
+			t.Errorf("at 390 px the steadiness picture writes a label or a shift %s", s)
+		}
+	}
+	shots := newScreenshots(t)
+	shots.take(fac, "demo-steadiness-390")
+}

@@ -317,11 +317,11 @@ func TestCalibrationPageShowsTheClassicalModel(t *testing.T) {
 		t.Errorf("largest shift %s not stated", fv(loo.MaxShift))
 	}
 	// The picture has a panel per target, each with the whole panel's
-	// row and one row per rerun.
+	// row and one row per rerun, in its wide and its compact drawing.
 	for k := range p.targets {
 		fig := block(body, "steadiness-"+strconv.Itoa(k+1))
-		if n := strings.Count(fig, `class="steady-row`); n != 1+len(loo.Cases) {
-			t.Errorf("steadiness panel %d has %d rows, want %d", k+1, n, 1+len(loo.Cases))
+		if n := strings.Count(fig, `class="steady-row`); n != 2*(1+len(loo.Cases)) {
+			t.Errorf("steadiness panel %d has %d rows in its two drawings, want %d in each", k+1, n, 1+len(loo.Cases))
 		}
 	}
 

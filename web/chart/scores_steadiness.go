@@ -41,17 +41,32 @@ type SteadinessRow struct {
 }
 
 // Layout of a steadiness panel, in SVG units (see scores.go for the text
-// sizes).
+// sizes). Wide: the row labels on the left, the plot, the largest shifts
+// on the right. Compact (a phone, 360 units across, drawn at about its
+// own size as the other pictures' compact drawings are): each row's label
+// on its own line above its interval, its largest shift at the end of
+// that line, so that nothing is cut or scrolled.
+type steadyLayout struct {
+	Name                string
+	Left, PlotW, ShiftW float64
+	RowH                float64
+	Above               bool // the label above the interval
+	LabelChars          int  // the longest row label drawn
+}
+
+var steadyLayouts = [...]steadyLayout{
+	{Name: "wide", Left: 215, PlotW: 320, ShiftW: 100, RowH: 27, LabelChars: 24},
+	{Name: "compact", Left: 10, PlotW: 340, ShiftW: 10, RowH: 44, Above: true, LabelChars: 32},
+}
+
+func (l steadyLayout) width() float64 { return l.Left + l.PlotW + l.ShiftW }
+
 const (
-	steadyLabelW = 215.0
-	steadyPlotW  = 320.0
-	steadyShiftW = 100.0
-	steadyRowH   = 27.0
-	steadyTop    = 50.0
-	steadyBelow  = 56.0
-	// steadyLabelChars is the longest row label drawn; the table after
-	// the picture has the full names.
-	steadyLabelChars = 24
+	steadyTop   = 50.0
+	steadyBelow = 56.0
+	// steadyTitleChars is the longest title the compact drawing writes;
+	// the caption names the question in full.
+	steadyTitleChars = 40
 )
 
 type steadyRowGeom struct {
@@ -60,6 +75,7 @@ type steadyRowGeom struct {
 	X1, X2, Mid       string
 	Drawn             bool
 	Note, NoteX       string
+	NoteY             string
 	Shift, ShiftValue string
 	First             bool
 	Rule              string // y of a rule above the row, "" for none
@@ -67,10 +83,10 @@ type steadyRowGeom struct {
 	P05, P50, P95     string // data values
 }
 
-type steadyPanel struct {
-	ID        string
+// steadyDrawing is one panel drawn in one layout.
+type steadyDrawing struct {
+	Layout    string
 	Title     string
-	Desc      string
 	ViewBox   string
 	Axis      axesGeom
 	XTicks    []tickGeom
@@ -80,12 +96,20 @@ type steadyPanel struct {
 	BandTop   string
 	BandH     string
 	MidX      string
+	LabelX    string
 	ShiftX    string
 	ShiftHead string
 	HeadY     string
 	TitleY    string
 	Rows      []steadyRowGeom
-	Invalid   string
+}
+
+type steadyPanel struct {
+	ID       string
+	Title    string
+	Desc     string
+	Drawings []steadyDrawing // wide, then compact
+	Invalid  string
 }
 
 // Steadiness draws one panel per watched question, each with a caption.
@@ -125,52 +149,14 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 	if !(x1 > x0) {
 		x0, x1 = t.Lower, t.Upper
 	}
-	n := len(t.Rows) + 1
-	f := frame{Left: steadyLabelW, Top: steadyTop, Width: steadyPlotW, Height: float64(n) * steadyRowH, X0: x0, X1: x1, Y0: 0, Y1: 1}
-	clamp := func(x float64) float64 { return f.px(math.Max(x0, math.Min(x1, x))) }
-	m.ViewBox = "0 0 " + coord(steadyLabelW+steadyPlotW+steadyShiftW) + " " + coord(f.bottom()+steadyBelow)
-	m.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-steadiness"}
-	for _, tk := range ticks(x0, x1, 4) {
-		m.XTicks = append(m.XTicks, tickGeom{Pos: coord(f.px(tk.Value)), Label: tk.Label, Value: fmt.Sprint(tk.Value)})
+	for _, lay := range steadyLayouts {
+		m.Drawings = append(m.Drawings, newSteadyDrawing(lay, t, x0, x1))
 	}
-	m.XLabelY = coord(f.bottom() + 20)
-	m.BandX, m.BandW = coord(clamp(t.Full[0])), coord(clamp(t.Full[2])-clamp(t.Full[0]))
-	m.BandTop, m.BandH = coord(f.Top), coord(f.Height)
-	m.MidX = coord(clamp(t.Full[1]))
-	m.ShiftX = coord(steadyLabelW + steadyPlotW + steadyShiftW - 6)
-	m.ShiftHead, m.HeadY, m.TitleY = "largest shift", coord(steadyTop-10), coord(20)
-
-	row := func(i int, label string, pool *[3]float64, note string, shift string, shiftValue string) steadyRowGeom {
-		y := f.Top + (float64(i)+0.5)*steadyRowH
-		g := steadyRowGeom{Y: coord(y), LabelY: coord(y + 5), Label: shortLabel(label), FullLabel: label, First: i == 0,
-			Shift: shift, ShiftValue: shiftValue, Note: note, NoteX: coord(f.Left + 8)}
-		if pool != nil && validTriple(*pool) {
-			g.Drawn = true
-			g.X1, g.Mid, g.X2 = coord(clamp(pool[0])), coord(clamp(pool[1])), coord(clamp(pool[2]))
-			g.P05, g.P50, g.P95 = fmt.Sprint(pool[0]), fmt.Sprint(pool[1]), fmt.Sprint(pool[2])
-		} else if g.Note == "" {
-			g.Note = "no pool"
-		}
-		return g
-	}
-	full := t.Full
-	m.Rows = append(m.Rows, row(0, "whole panel", &full, "", "", ""))
 	largest, which := -1.0, ""
-	for i, r := range t.Rows {
-		shift, value := "", ""
-		if r.Pool != nil && isFinite(r.Shift) {
-			// The table's figures: at two, three rows of the demo read
-			// 0.011 beside a table of 0.01113 and others.
-			shift, value = FormatValue(r.Shift), fmt.Sprint(r.Shift)
-			if r.Shift > largest {
-				largest, which = r.Shift, r.Label
-			}
+	for _, r := range t.Rows {
+		if r.Pool != nil && isFinite(r.Shift) && r.Shift > largest {
+			largest, which = r.Shift, r.Label
 		}
-		g := row(i+1, r.Label, r.Pool, r.Note, shift, value)
-		if r.NewGroup {
-			g.Rule, g.RuleX1, g.RuleX2 = coord(f.Top+float64(i+1)*steadyRowH), coord(4), coord(steadyLabelW+steadyPlotW+steadyShiftW-4)
-		}
-		m.Rows = append(m.Rows, g)
 	}
 	m.Desc = fmt.Sprintf("The performance-weighted pool on %s, rerun without one calibration question or one expert at a time. "+
 		"Each line runs from the pool's 5th to its 95th percentile with a dot at its median; the shaded band and the dashed line are the whole panel's "+
@@ -182,11 +168,62 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 	return m
 }
 
-// shortLabel cuts a row label to steadyLabelChars characters.
-func shortLabel(s string) string {
-	r := []rune(s)
-	if len(r) <= steadyLabelChars {
-		return s
+// newSteadyDrawing lays out one panel in lay over the window [x0, x1].
+func newSteadyDrawing(lay steadyLayout, t SteadinessTarget, x0, x1 float64) steadyDrawing {
+	d := steadyDrawing{Layout: lay.Name, Title: t.Title}
+	if lay.Above {
+		d.Title = clipLabel(t.Title, steadyTitleChars)
 	}
-	return string(r[:steadyLabelChars-1]) + "…"
+	n := len(t.Rows) + 1
+	f := frame{Left: lay.Left, Top: steadyTop, Width: lay.PlotW, Height: float64(n) * lay.RowH, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	clamp := func(x float64) float64 { return f.px(math.Max(x0, math.Min(x1, x))) }
+	d.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(f.bottom()+steadyBelow)
+	d.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-steadiness"}
+	for _, tk := range ticks(x0, x1, 4) {
+		d.XTicks = append(d.XTicks, tickGeom{Pos: coord(f.px(tk.Value)), Label: tk.Label, Value: fmt.Sprint(tk.Value)})
+	}
+	d.XLabelY = coord(f.bottom() + 20)
+	d.BandX, d.BandW = coord(clamp(t.Full[0])), coord(clamp(t.Full[2])-clamp(t.Full[0]))
+	d.BandTop, d.BandH = coord(f.Top), coord(f.Height)
+	d.MidX = coord(clamp(t.Full[1]))
+	d.ShiftX = coord(lay.width() - 6)
+	d.LabelX = coord(6)
+	if lay.Above {
+		d.LabelX, d.ShiftX = coord(f.Left+4), coord(f.right()-6)
+	}
+	d.ShiftHead, d.HeadY, d.TitleY = "largest shift", coord(steadyTop-10), coord(20)
+
+	row := func(i int, label string, pool *[3]float64, note string, shift string, shiftValue string) steadyRowGeom {
+		top := f.Top + float64(i)*lay.RowH
+		y, labelY := top+lay.RowH/2, top+lay.RowH/2+5
+		if lay.Above {
+			y, labelY = top+lay.RowH*0.72, top+lay.RowH*0.38
+		}
+		g := steadyRowGeom{Y: coord(y), LabelY: coord(labelY), Label: clipLabel(label, lay.LabelChars), FullLabel: label, First: i == 0,
+			Shift: shift, ShiftValue: shiftValue, Note: note, NoteX: coord(f.Left + 8), NoteY: coord(y + 5)}
+		if pool != nil && validTriple(*pool) {
+			g.Drawn = true
+			g.X1, g.Mid, g.X2 = coord(clamp(pool[0])), coord(clamp(pool[1])), coord(clamp(pool[2]))
+			g.P05, g.P50, g.P95 = fmt.Sprint(pool[0]), fmt.Sprint(pool[1]), fmt.Sprint(pool[2])
+		} else if g.Note == "" {
+			g.Note = "no pool"
+		}
+		return g
+	}
+	full := t.Full
+	d.Rows = append(d.Rows, row(0, "whole panel", &full, "", "", ""))
+	for i, r := range t.Rows {
+		shift, value := "", ""
+		if r.Pool != nil && isFinite(r.Shift) {
+			// The table's figures: at two, three rows of the demo read
+			// 0.011 beside a table of 0.01113 and others.
+			shift, value = FormatValue(r.Shift), fmt.Sprint(r.Shift)
+		}
+		g := row(i+1, r.Label, r.Pool, r.Note, shift, value)
+		if r.NewGroup {
+			g.Rule, g.RuleX1, g.RuleX2 = coord(f.Top+float64(i+1)*lay.RowH), coord(4), coord(lay.width()-4)
+		}
+		d.Rows = append(d.Rows, g)
+	}
+	return d
 }
