@@ -336,3 +336,30 @@ func TestSteadinessPictureWritesTheTablesShifts(t *testing.T) {
 		t.Errorf("the demo's one target question: the picture's shifts read %q, the table's %q", picture, table)
 	}
 }
+
+// TestStudyPictureNamesEachPriorAsTheTableDoes: at 1366 px the demo's
+// study page labelled a line of its picture of the priors compared
+// "Performance-weight pool…", cut before "(suggested)", beside a table
+// naming it in full. A label too long for the picture's column takes two
+// lines; read together they are the table's name.
+func TestStudyPictureNamesEachPriorAsTheTableDoes(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
+	table := regexp.MustCompile(`(?s)<table class="table table-compact compare-table">.*?</table>`).FindString(body)
+	var names []string
+	for _, m := range regexp.MustCompile(`<th scope="row">([^<]+)</th>`).FindAllStringSubmatch(table, -1) {
+		names = append(names, m[1])
+	}
+	if !strings.Contains(strings.Join(names, "|"), "Performance-weight pool (suggested)") {
+		t.Fatalf("the demo's priors compared are %q, without the suggested performance-weight pool", names)
+	}
+	var labels []string
+	for _, m := range regexp.MustCompile(`(?s)<text class="interval-label[^"]*"[^>]*>(.*?)</text>`).FindAllStringSubmatch(body, -1) {
+		l := regexp.MustCompile(`</tspan>\s*<tspan[^>]*>`).ReplaceAllString(m[1], " ")
+		labels = append(labels, strings.TrimSpace(regexp.MustCompile(`<[^>]+>`).ReplaceAllString(l, "")))
+	}
+	// One picture, drawn wide and compact.
+	if want := strings.Join(append(names, names...), "|"); strings.Join(labels, "|") != want {
+		t.Errorf("the picture labels its lines %q, the table names its priors %q", labels, names)
+	}
+}

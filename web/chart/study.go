@@ -331,6 +331,7 @@ type IntervalRow struct {
 
 type intervalGeom struct {
 	Label, LabelY   string
+	Label2, Label2Y string // a second line of the label, "" for none
 	Y, X1, X2, Mean string
 	Emphasis        bool
 }
@@ -407,8 +408,17 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 			if above {
 				y, labelY = top+rowH*0.7, top+rowH*0.35
 			}
-			d.Rows = append(d.Rows, intervalGeom{Label: clipLabel(r.Label, chars), LabelY: coord(labelY), Y: coord(y),
-				X1: coord(g.f.px(r.Lo)), X2: coord(g.f.px(r.Hi)), Mean: coord(g.f.px(r.Mean)), Emphasis: r.Emphasis})
+			row := intervalGeom{Label: clipLabel(r.Label, chars), LabelY: coord(labelY), Y: coord(y),
+				X1: coord(g.f.px(r.Lo)), X2: coord(g.f.px(r.Hi)), Mean: coord(g.f.px(r.Mean)), Emphasis: r.Emphasis}
+			// Beside the line, a label too long for its column takes two
+			// lines rather than losing its end: the demo's
+			// "Performance-weight pool (suggested)" read
+			// "Performance-weight pool…", as if another pool.
+			if first, second, ok := splitLabel(r.Label, chars); !above && ok {
+				row.Label, row.LabelY = first, coord(y-3)
+				row.Label2, row.Label2Y = clipLabel(second, chars), coord(y+11)
+			}
+			d.Rows = append(d.Rows, row)
 		}
 		m.Drawings = append(m.Drawings, d)
 	}
@@ -432,6 +442,26 @@ func clipLabel(s string, n int) string {
 		return s
 	}
 	return string(r[:n-1]) + "…"
+}
+
+// splitLabel breaks a label longer than n characters for two lines:
+// before its bracket ("Custom-weight pool" over "(in force)") when that
+// lies within the first n, else at its last space there; ok is false
+// when it is short enough for one, or has no such space.
+func splitLabel(s string, n int) (first, second string, ok bool) {
+	r := []rune(s)
+	if len(r) <= n {
+		return s, "", false
+	}
+	if i := strings.LastIndex(s, " ("); i > 0 && len([]rune(s[:i])) <= n {
+		return s[:i], s[i+1:], true
+	}
+	for i := n; i > 0; i-- {
+		if r[i] == ' ' {
+			return string(r[:i]), string(r[i+1:]), true
+		}
+	}
+	return s, "", false
 }
 
 // beforeData says when and under what a planned study's outcomes are

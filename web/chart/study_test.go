@@ -2,6 +2,7 @@ package chart
 
 import (
 	"math"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -96,11 +97,11 @@ func TestIntervalsRows(t *testing.T) {
 		if lines[2].Attr["stroke-width"] != "4" {
 			t.Errorf("%s: the agreed prior is not drawn heavier", lay)
 		}
-		// Wide: the label beside the line, shortened; compact (a phone):
-		// the whole label on its own line above the interval.
+		// Wide: the label beside the line, on two lines; compact (a
+		// phone): the whole label on its own line above the interval.
 		switch {
-		case lay == "wide" && !strings.Contains(html, "…"):
-			t.Errorf("%s: the long label is not shortened", lay)
+		case lay == "wide" && !regexp.MustCompile(`>A very long name that</tspan><tspan [^>]*>must be shortened</tspan>`).MatchString(html):
+			t.Errorf("%s: the long label is not on two lines", lay)
 		case lay == "compact" && !strings.Contains(html, "A very long name that must be shortened</text>"):
 			t.Errorf("%s: the long label is cut on a phone", lay)
 		}
@@ -114,5 +115,27 @@ func TestAssuranceDescriptionSingularTrial(t *testing.T) {
 	html := render(t, Assurance(v))
 	if !strings.Contains(html, "0% at 1 trial and 40% at 3") || strings.Contains(html, "1 trials") {
 		t.Error("the description says \"1 trials\"")
+	}
+}
+
+// A label too long for the intervals' wide column breaks before its
+// bracket, or else at its last space that fits, never inside a word; one
+// that fits, or has no such space, stays one line.
+func TestSplitLabel(t *testing.T) {
+	for _, c := range []struct {
+		in            string
+		first, second string
+		ok            bool
+	}{
+		{"Performance-weight pool (suggested)", "Performance-weight pool", "(suggested)", true},
+		{"Equal-weight pool", "Equal-weight pool", "", false},
+		{"Custom-weight pool (in force)", "Custom-weight pool", "(in force)", true},
+		{"Anneliese Oberhauser-Lindqvist", "Anneliese", "Oberhauser-Lindqvist", true},
+		{"Anneliese-Katharina-Oberhauser", "Anneliese-Katharina-Oberhauser", "", false},
+	} {
+		f, s, ok := splitLabel(c.in, 24)
+		if f != c.first || s != c.second || ok != c.ok {
+			t.Errorf("splitLabel(%q) = %q, %q, %v; want %q, %q, %v", c.in, f, s, ok, c.first, c.second, c.ok)
+		}
 	}
 }
