@@ -26,39 +26,7 @@ import (
 func TestLargePanelPages(t *testing.T) {
 	const n = 60
 	s := startSite(t)
-	ctx := context.Background()
-	ws := workshop.Workshop{Title: "Invented: a large reliability panel", Invented: true,
-		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
-	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
-		t.Fatal(err)
-	}
-	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
-		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
-		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
-	if err := s.DB.AddQuestion(ctx, &q); err != nil {
-		t.Fatal(err)
-	}
-	for i := 0; i < n; i++ {
-		_, hash, err := web.NewExpertToken()
-		if err != nil {
-			t.Fatal(err)
-		}
-		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
-		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
-			t.Fatal(err)
-		}
-		m := 0.04 + 0.2*float64(i)/n
-		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
-			Reason: fmt.Sprintf("Invented: field returns of a similar seal, site %d.", i+1)}
-		f, err := q.Fit(rv.Answer)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rv.Kept = &f
-		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
+	ws, q := largePanel(t, s, n)
 	axe := axeSource(t)
 	shots := newScreenshots(t)
 	br := startBrowser(t)
@@ -148,5 +116,89 @@ func TestLargePanelPages(t *testing.T) {
 	}
 	if lines < 3*n {
 		t.Errorf("the printed strip's intervals leave %d inked pixels, want at least %d", lines, 3*n)
+	}
+}
+
+// largePanel adds an invented workshop of one question answered by n
+// experts, each with a reason.
+func largePanel(t *testing.T, s *site, n int) (workshop.Workshop, workshop.Question) {
+	t.Helper()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Invented: a large reliability panel", Invented: true,
+		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
+	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
+		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	if err := s.DB.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < n; i++ {
+		_, hash, err := web.NewExpertToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
+		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		m := 0.04 + 0.2*float64(i)/float64(n)
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
+			Reason: fmt.Sprintf("Invented: field returns of a similar seal, site %d.", i+1)}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rv.Kept = &f
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return ws, q
+}
+
+// TestLargePanelCellsKeepDatesAndValuesWhole: a large panel's tables
+// of judgements and of revisions, with a reason in every row, broke a
+// cell inside what is read as one thing: "2026-12-" over "03 11:11 UTC"
+// at 1366 px, and "95%:" over its value "0.078" at 1366 and at 390 px. A
+// cell may break between them, never inside a time or a named value.
+func TestLargePanelCellsKeepDatesAndValuesWhole(t *testing.T) {
+	s := startSite(t)
+	ws, q := largePanel(t, s, 24)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	qp := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10)
+	for _, w := range []int64{1366, 390} {
+		fac.viewport(w, 900, w < 600)
+		for _, pg := range []struct{ name, url, table string }{
+			{"the question's judgements", qp, "#judgements"}, {"the whole history", qp + "/history", "#history"},
+		} {
+			fac.open(pg.url)
+			if n := fac.count(pg.table + " tbody tr"); n < 24 {
+				t.Fatalf("%s at %d px: %d rows", pg.name, w, n)
+			}
+			broken := eval[[]string](fac, "the cells' times and values", `(() => {
+				const lines = r => new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size;
+				const out = [];
+				for (const td of document.querySelectorAll(`+strconv.Quote(pg.table+" tbody td")+`)) {
+					const w = document.createTreeWalker(td, NodeFilter.SHOW_TEXT);
+					for (let n = w.nextNode(); n; n = w.nextNode()) {
+						const re = /\d{4}-\d\d-\d\d \d\d:\d\d(:\d\d)? UTC|\d+%:\s[^;\s]+/g;
+						for (let m; (m = re.exec(n.textContent)); ) {
+							const r = document.createRange();
+							r.setStart(n, m.index); r.setEnd(n, m.index + m[0].length);
+							if (lines(r) > 1) out.push(m[0]);
+						}
+					}
+				}
+				return out;
+			})()`)
+			if len(broken) > 0 {
+				t.Errorf("%s at %d px breaks %d times or values over two lines, the first %q", pg.name, w, len(broken), broken[0])
+			}
+		}
 	}
 }

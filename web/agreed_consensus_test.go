@@ -43,12 +43,12 @@ func TestConsensusPriorShowsItsJudgement(t *testing.T) {
 	words := func(p workshop.AgreedPrior) string {
 		var parts []string
 		for i, x := range p.Consensus.Values {
-			parts = append(parts, pct(q.Probs[i])+": "+fv(x))
+			parts = append(parts, pct(q.Probs[i])+":\u00a0"+fv(x))
 		}
 		return "consensus judgement (" + strings.Join(parts, "; ") + "), largest probability gap " + fv(gapOf(p))
 	}
 	now, before := words(ps[1]), words(ps[0])
-	if !strings.Contains(now, "5%: 0.021; 50%: 0.052; 95%: 0.13") {
+	if !strings.Contains(now, "5%:\u00a00.021; 50%:\u00a00.052; 95%:\u00a00.13") {
 		t.Fatalf("the test's own wording is off: %q", now)
 	}
 	if g := gapOf(ps[1]); !(g > 0 && g < 0.05) {

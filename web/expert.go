@@ -787,13 +787,18 @@ func answerInWords(q workshop.Question, a workshop.Answer) string {
 	return strings.Join(parts, "; ")
 }
 
+// nbsp joins a value to its name in answerSummary: a cell may break
+// between "5%: 0.02;" and "50%: 0.04;", never between "95%:" and its
+// value (the large panel's tables broke "95%:" over "0.078").
+const nbsp = "\u00a0"
+
 // answerSummary writes a saved answer on one line.
 func answerSummary(q workshop.Question, a workshop.Answer) string {
 	var parts []string
 	switch q.Format {
 	case workshop.FormatInterval:
-		parts = append(parts, "lowest "+typedBack(q, a.Lowest, a.Percent), "highest "+typedBack(q, a.Highest, a.Percent),
-			"best "+typedBack(q, a.Best, a.Percent), "sure "+confidenceBack(a.Confidence))
+		parts = append(parts, "lowest"+nbsp+typedBack(q, a.Lowest, a.Percent), "highest"+nbsp+typedBack(q, a.Highest, a.Percent),
+			"best"+nbsp+typedBack(q, a.Best, a.Percent), "sure"+nbsp+confidenceBack(a.Confidence))
 	case workshop.FormatChips:
 		for _, c := range a.Counts {
 			parts = append(parts, strconv.Itoa(c))
@@ -805,7 +810,7 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 			if i < len(q.Probs) {
 				p = chart.FormatPercent(q.Probs[i])
 			}
-			parts = append(parts, p+": "+typedBack(q, x, a.Percent))
+			parts = append(parts, p+":"+nbsp+typedBack(q, x, a.Percent))
 		}
 	}
 	return strings.Join(parts, "; ")

@@ -618,10 +618,11 @@ func TestReportHistoryShowsWhatWasStated(t *testing.T) {
 	history := body[i:j]
 	for _, want := range []string{
 		"<th scope=\"col\">Stated</th>",
-		"5%: 0.01; 50%: 0.04; 95%: 0.12", // the demo's round-1 answer of Ines
-		"5%: 0.02; 50%: 0.05; 95%: 0.15", // her revision
-		"Heard of a recall (invented).",  // and its reason
-		"lowest 0.02; highest 0.2; best 0.06; sure 90%",
+		// Each value joined to its name by a no-break space.
+		"5%:\u00a00.01; 50%:\u00a00.04; 95%:\u00a00.12", // the demo's round-1 answer of Ines
+		"5%:\u00a00.02; 50%:\u00a00.05; 95%:\u00a00.15", // her revision
+		"Heard of a recall (invented).",                 // and its reason
+		"lowest\u00a00.02; highest\u00a00.2; best\u00a00.06; sure\u00a090%",
 		"chips 5, 10, 5, 0",
 	} {
 		if !strings.Contains(history, want) {
