@@ -354,10 +354,12 @@ type intervalsModel struct {
 func Intervals(v IntervalsView) templ.Component { return intervalsFigure(newIntervalsModel(v)) }
 
 // intervalRowH is the height of one row of Intervals, in SVG units;
+// intervalRowTwoLinesH of one where some label takes two lines;
 // intervalRowAboveH of one with its label above the line.
 const (
-	intervalRowH      = 30.0
-	intervalRowAboveH = 44.0
+	intervalRowH         = 30.0
+	intervalRowTwoLinesH = 40.0
+	intervalRowAboveH    = 44.0
 )
 
 func newIntervalsModel(v IntervalsView) intervalsModel {
@@ -384,6 +386,14 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 		if above {
 			chars, rowH = 40, intervalRowAboveH
 		} else {
+			// A label on two lines (below) needs room to read as one
+			// row's: at 30 units its second line sat as near the next
+			// row's label as its own first line.
+			for _, r := range v.Rows {
+				if _, _, ok := splitLabel(r.Label, chars); ok {
+					rowH = intervalRowTwoLinesH
+				}
+			}
 			lay.PlotW = lay.PlotW + lay.Left - labelW - 8
 			lay.Left = labelW + 8
 		}

@@ -139,3 +139,39 @@ func TestSplitLabel(t *testing.T) {
 		}
 	}
 }
+
+// Two labels on two lines one above the other ("Custom-weight pool (in
+// force)" and "Performance-weight pool (suggested)" beside each other
+// when custom weights are in force) read as two: each label's second
+// line lies nearer its own first line than the next label's first line.
+func TestTwoLineLabelsReadAsTheirRows(t *testing.T) {
+	v := IntervalsView{ID: "i", XTitle: "posterior proportion", Rows: []IntervalRow{
+		{Label: "Equal-weight pool", Mean: 0.04, Lo: 0.02, Hi: 0.07},
+		{Label: "Custom-weight pool (in force)", Mean: 0.045, Lo: 0.02, Hi: 0.08},
+		{Label: "Performance-weight pool (suggested)", Mean: 0.042, Lo: 0.016, Hi: 0.08},
+		{Label: "Agreed prior", Mean: 0.044, Lo: 0.018, Hi: 0.08, Emphasis: true},
+	}}
+	html := render(t, Intervals(v))
+	var lines []float64 // the baseline of every line of every label, in order
+	var firsts []int    // the index in lines of each label's first line
+	for _, m := range regexp.MustCompile(`(?s)<text class="interval-label[^"]*"[^>]* y="([0-9.]+)"[^>]*>(.*?)</text>`).FindAllStringSubmatch(html, -1) {
+		firsts = append(firsts, len(lines))
+		spans := regexp.MustCompile(`<tspan [^>]*y="([0-9.]+)"`).FindAllStringSubmatch(m[2], -1)
+		if len(spans) == 0 {
+			lines = append(lines, parseNumber(m[1]))
+		}
+		for _, s := range spans {
+			lines = append(lines, parseNumber(s[1]))
+		}
+	}
+	if len(firsts) != 4 || len(lines) != 6 {
+		t.Fatalf("%d labels in %d lines, want 4 in 6", len(firsts), len(lines))
+	}
+	for _, k := range []int{1, 2} {
+		i := firsts[k]
+		within, apart := lines[i+1]-lines[i], lines[firsts[k+1]]-lines[i+1]
+		if !(apart > within+6) {
+			t.Errorf("%q: its lines %.0f apart, its second line %.0f from the next label", v.Rows[k].Label, within, apart)
+		}
+	}
+}
