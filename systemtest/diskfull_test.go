@@ -82,8 +82,8 @@ func TestSaveOnAFullDisk(t *testing.T) {
 	if !strings.HasPrefix(full, "status 503\n") {
 		t.Fatalf("expert save on a full disk:\n%.300s\nserver:\n%s", full, server.out.tail(2000))
 	}
-	if log := server.out.tail(4000); !strings.Contains(log, "database or disk is full") || strings.Contains(log, e.token) {
-		t.Errorf("the server log should name the full disk and not the token:\n%s", log)
+	if !server.out.waitFor("database or disk is full", 10*time.Second) || strings.Contains(server.out.tail(4000), e.token) {
+		t.Errorf("the server log should name the full disk and not the token:\n%s", server.out.tail(4000))
 	}
 	for _, want := range []string{"Nothing was saved: the server could not write your answer down just now.", "Try Save again in a minute",
 		`value="0.0123"`, `value="0.0456"`, `value="0.0789"`, "Typed on a full disk (invented)"} {

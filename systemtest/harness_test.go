@@ -81,6 +81,21 @@ func (b *lockedBuffer) tail(n int) string {
 	return s
 }
 
+// waitFor waits up to limit for the output to hold text, and reports
+// whether it does. The child's output reaches the buffer through a pipe
+// and a copying goroutine, and a line logged as a request fails can
+// arrive after its response: read at once, it was missing now and then.
+func (b *lockedBuffer) waitFor(text string, limit time.Duration) bool {
+	for deadline := time.Now().Add(limit); ; time.Sleep(20 * time.Millisecond) {
+		b.mu.Lock()
+		ok := strings.Contains(b.buf.String(), text)
+		b.mu.Unlock()
+		if ok || time.Now().After(deadline) {
+			return ok
+		}
+	}
+}
+
 // child is one running `parley serve`.
 type child struct {
 	cmd     *exec.Cmd
