@@ -293,8 +293,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	if !q.Calibration {
-		f.set("", "Q"+strconv.Itoa(q.Position)+" is not a calibration question, so it has no true value.")
-		s.showCalibration(w, r, http.StatusUnprocessableEntity, ws, calibrationForms{truthFor: q.ID, truth: f})
+		s.notCalibration(w, r, q)
 		return
 	}
 	value := f.Float("true_value")
@@ -335,12 +334,25 @@ func scaleValue(log bool) string {
 	return scaleUniform
 }
 
+// notCalibration refuses a true value or a background posted for a
+// question that is not a calibration question (a hand-made post: the
+// page offers neither form for it) on a page of its own, since the
+// calibration page has no card where the refusal could stand.
+func (s *Server) notCalibration(w http.ResponseWriter, r *http.Request, q workshop.Question) {
+	s.renderPage(w, r, http.StatusUnprocessableEntity, pageMeta{Title: "Not a calibration question"},
+		messagePage("Not a calibration question", "Q"+strconv.Itoa(q.Position)+" ("+q.Quantity+") is not a calibration question, so it takes no true value and its answers are not scored. Nothing was saved."))
+}
+
 // setScale sets whether a calibration question's information is scored
 // against the uniform or the log-uniform background, with the required
 // reason (Store.SetLogScale records it in the decision log).
 func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
 	ws, q, ok := s.loadWorkshopQuestion(w, r)
 	if !ok || !parseForm(w, r) {
+		return
+	}
+	if !q.Calibration {
+		s.notCalibration(w, r, q)
 		return
 	}
 	f := newForm(r.PostForm)

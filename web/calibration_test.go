@@ -1077,3 +1077,34 @@ func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 func errorsOn(body string) string {
 	return strings.Join(regexp.MustCompile(`<[^>]*class="(?:form-error|field-error)"[^>]*>[^<]*`).FindAllString(body, -1), "\n")
 }
+
+// A true value or a background posted for a question that is not a
+// calibration question (by hand: the page offers neither form for it)
+// is refused on a page that says so, and nothing is saved; before, the
+// refusal went to a card the calibration page does not show.
+func TestNotACalibrationQuestionIsRefusedInWords(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	q := p.targets[0]
+	for _, c := range []struct {
+		path string
+		form url.Values
+	}{
+		{seedPath(p.ws.ID, q.ID), url.Values{"true_value": {"0.2"}, "reveal": {"on"}, "reason": {"r"}}},
+		{seedPath(p.ws.ID, q.ID) + "/background", url.Values{"background": {"log-uniform"}, "reason": {"r"}}},
+	} {
+		before := h.counts(p.ws.ID)
+		res, body := h.post(c.path, c.form)
+		if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "Q1 (worn share) is not a calibration question") ||
+			!strings.Contains(body, "Nothing was saved.") {
+			t.Errorf("%s: %d, the page does not say why", c.path, res.StatusCode)
+		}
+		if h.counts(p.ws.ID) != before {
+			t.Errorf("%s: something was saved", c.path)
+		}
+	}
+	got, err := h.db.Question(context.Background(), q.ID)
+	if err != nil || got.TrueValue != nil || got.LogScale {
+		t.Fatalf("the target question was changed: %+v, %v", got, err)
+	}
+}

@@ -42,15 +42,3 @@ func chainOf(src workshop.Snapshot) fingerprint.Chain {
 	return fingerprint.Of(fingerprint.Facts{Workshop: src.Workshop, Revisions: src.Revisions, WeightSets: src.WeightHistory,
 		Priors: src.Priors, Data: src.Data, Events: src.Events})
 }
-
-// closeOf is the chain's link at the latest close of round n, if the
-// round has closed.
-func closeOf(c fingerprint.Chain, n int) (fingerprint.Link, bool) {
-	closes := c.RoundCloses()
-	for i := len(closes) - 1; i >= 0; i-- {
-		if closes[i].Closed == n {
-			return closes[i], true
-		}
-	}
-	return fingerprint.Link{}, false
-}

@@ -148,7 +148,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if err != nil {
 			return err
 		}
-		if l, ok := closeOf(chainOf(src), ws.Round); ok {
+		if l, ok := chainOf(src).LastClose(ws.Round); ok {
 			v.Fingerprint = l.Value.Short()
 		}
 	}

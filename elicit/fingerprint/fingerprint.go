@@ -171,6 +171,18 @@ func (c Chain) RoundCloses() []Link {
 	return out
 }
 
+// LastClose is the link of the latest close of round n (a round closed,
+// reopened and closed again has closed twice), and ok false when round n
+// has not closed.
+func (c Chain) LastClose(n int) (Link, bool) {
+	for i := len(c.Links) - 1; i >= 0; i-- {
+		if c.Links[i].Closed == n {
+			return c.Links[i], true
+		}
+	}
+	return Link{}, false
+}
+
 // Find is the index of the first link whose value begins with prefix, -1
 // when the start h₀ does, and ok false when no value does.
 func (c Chain) Find(prefix []byte) (index int, ok bool) {

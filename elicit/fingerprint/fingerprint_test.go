@@ -180,6 +180,19 @@ func TestValueAtACloseStaysAsLaterFactsArrive(t *testing.T) {
 	if _, ok := full.Find([]byte{0, 0, 0, 0, 0, 0, 0, 0}); ok {
 		t.Fatal("Find found a value that is not there")
 	}
+	if l, ok := full.LastClose(1); !ok || l != closes[0] {
+		t.Fatalf("LastClose(1) = %+v, %v", l, ok)
+	}
+	if _, ok := full.LastClose(2); ok {
+		t.Fatal("LastClose(2) found a close of a round that never closed")
+	}
+	// Round 1 closed again later: the room is shown the latest close.
+	again := all
+	again.Events = append(append([]workshop.Event(nil), all.Events...), workshop.Event{ID: 99, WorkshopID: all.Workshop.ID,
+		Kind: workshop.EventRoundClosed, At: full.Links[len(full.Links)-1].At.Add(time.Hour), Detail: `{"round":1}`})
+	if l, ok := Of(again).LastClose(1); !ok || l.ID != 99 {
+		t.Fatalf("LastClose(1) after a second close = %+v, %v; want event 99", l, ok)
+	}
 }
 
 // The start value by the documented recipe, written out by hand here:
