@@ -81,7 +81,7 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		if !old.Revealed {
 			shown = slices.DeleteFunc(slices.Clone(fields), func(f string) bool { return f == "true_value" })
 		}
-		detail, err := json.Marshal(questionChange{Fields: fields, Before: pick(old, shown), After: pick(q, shown)})
+		detail, err := json.Marshal(questionChange{Fields: fields, Before: old.Fields(shown), After: q.Fields(shown)})
 		if err != nil {
 			return fmt.Errorf("store: edit question: %w", err)
 		}
@@ -91,9 +91,6 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		})
 	})
 }
-
-// pick is the JSON object of q's named fields, by their JSON names.
-func pick(q workshop.Question, fields []string) json.RawMessage { return q.Fields(fields) }
 
 // SetQuestionRetired retires a question (hidden from experts, left out of
 // pools and scores, kept in the record) or brings it back, with its event.
