@@ -184,10 +184,7 @@ func newFit(d ScaledBeta, probs, values []float64, sse float64, resid []float64)
 		}
 	}
 	f.Warnings = fitWarnings(d.Beta, f.MaxProbError, d.OnUnit())
-	if m, ok := beyondDouble(d, f.Shown(), "the fitted "); ok {
-		f.Warnings = append(f.Warnings, Warning{WarnBeyondDouble, m})
-	}
-	return f
+	return f.Refreshed() // a point written as a bound (WarnBeyondDouble)
 }
 
 // Refreshed is f with the warnings this version derives from a fit's
