@@ -225,10 +225,8 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		if err != nil {
 			forms.alpha.Fail(err, nil)
 			v.PerfError = "it failed; the details are in the server log"
-			var ie *elicit.InputError
-			if errors.As(err, &ie) {
-				// The rule in words, not the package's message.
-				v.PerfError = string(ie.Rule)
+			if isInputError(err) {
+				v.PerfError = scoringProblem(err, d)
 			} else {
 				s.log.Error("classical model", "workshop", ws.ID, "err", err)
 			}
@@ -239,7 +237,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}
 			if rb, err := workshop.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
-				v.RobustnessError = err.Error()
+				v.RobustnessError = scoringProblem(err, d)
 			} else {
 				v.Robustness = &rb
 			}
@@ -438,7 +436,11 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		}
 		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
-			f.Fail(err, map[string]string{"experts": "scheme"})
+			if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Field == "alpha" {
+				f.Fail(err, nil)
+			} else {
+				f.set("scheme", "the classical model could not score the panel: "+scoringProblem(err, d))
+			}
 			break
 		}
 		// The set keeps what made it: scores, cut-off, true values and
@@ -475,6 +477,49 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 		target += "?alpha=" + url.QueryEscape(a)
 	}
 	http.Redirect(w, r, target+"#weights", http.StatusSeeOther)
+}
+
+// scoringProblem says in the facilitator's words why the classical model
+// refused the panel: the rule, and the calibration question, expert and
+// quantile that broke it where workshop.ScoringError places them.
+func scoringProblem(err error, d workshopData) string {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return "it failed; the details are in the server log"
+	}
+	var se *workshop.ScoringError
+	if !errors.As(err, &se) || se.QuestionID == 0 {
+		return string(ie.Rule)
+	}
+	var q workshop.Question
+	for _, c := range d.Questions {
+		if c.ID == se.QuestionID {
+			q = c
+		}
+	}
+	where := "calibration question Q" + strconv.Itoa(q.Position) + " " + q.Quantity
+	if se.ExpertID == 0 {
+		return where + ": " + string(ie.Rule)
+	}
+	name := ""
+	for _, e := range d.Experts {
+		if e.ID == se.ExpertID {
+			name = e.Name
+		}
+	}
+	answer := name + "'s answer to " + where
+	if se.Quantile < 0 {
+		return answer + ": " + string(ie.Rule)
+	}
+	// The value to the last digit: rounded, a quantile a hair from its
+	// neighbour or a bound would read as equal to it.
+	what := "its " + pct(q.Probs[se.Quantile]) + " quantile"
+	for _, rv := range d.Revisions {
+		if rv.ID == se.RevisionID && se.Quantile < len(rv.Answer.Values) {
+			what += ", " + strconv.FormatFloat(rv.Answer.Values[se.Quantile], 'g', -1, 64) + ","
+		}
+	}
+	return answer + ": " + what + " " + string(ie.Rule)
 }
 
 func isInputError(err error) bool {

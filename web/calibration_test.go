@@ -4,6 +4,7 @@ import (
 	"context"
 	"encoding/csv"
 	"io"
+	"math"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -1107,4 +1108,71 @@ func TestNotACalibrationQuestionIsRefusedInWords(t *testing.T) {
 	if err != nil || got.TrueValue != nil || got.LogScale {
 		t.Fatalf("the target question was changed: %+v, %v", got, err)
 	}
+}
+
+// TestScoringRefusalNamesTheAnswer: when the classical model refuses the
+// panel because of one answer, the calibration page and the weights form
+// name the calibration question, the expert, the quantile and its value,
+// not the rule alone or the model's internal indexes
+// (assessments[1].quantiles[2]). The answer is invented: on a question
+// scored on the log scale, a 95% quantile one step below the upper bound
+// 1e300 has the bound's own logarithm in float64.
+func TestScoringRefusalNamesTheAnswer(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Rare surge counts (invented)", Purpose: "Invented test panel", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "Surges per site-year?", Quantity: "surge rate", Lower: 0, Upper: 1e300,
+		Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	near := math.Nextafter(1e300, 0)
+	answers := map[string][]float64{"Ines": {1e-3, 2e-2, 0.4}, "Tomas": {1e298, 5e299, near}}
+	for _, name := range []string{"Ines", "Tomas"} {
+		_, hash, err := newToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: name}
+		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: answers[name]}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := h.db.SetTrueValue(ctx, q.ID, 0.05, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.SetLogScale(ctx, q.ID, true, "rates spread over orders of magnitude (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	want := "Tomas&#39;s answer to calibration question Q1 surge rate: its 95% quantile, " + strconv.FormatFloat(near, 'g', -1, 64) +
+		", " + string(elicit.RuleLogScaleTooClose)
+	_, body := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(body, "The classical model could not score the panel: "+want) {
+		t.Errorf("the calibration page does not name the answer that broke the rule:\n%s", excerpt(body, "could not score"))
+	}
+	before := h.counts(ws.ID)
+	res, body := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scores are in (invented)"}})
+	if res.StatusCode < 400 || res.StatusCode >= 500 || !hasFieldError(body, "scheme") || !strings.Contains(body, want) || strings.Contains(body, "assessments[") {
+		t.Errorf("the weights form: %d, does not name the answer beside the scheme:\n%s", res.StatusCode, excerpt(body, "could not score"))
+	}
+	if h.counts(ws.ID) != before {
+		t.Error("a refused weight set was saved")
+	}
+}
+
+// excerpt is the part of body around the first key, for a failure message.
+func excerpt(body, key string) string {
+	i := strings.Index(body, key)
+	if i < 0 {
+		return "(" + strconv.Quote(key) + " not found)"
+	}
+	return body[max(0, i-200):min(len(body), i+600)]
 }

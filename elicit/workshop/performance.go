@@ -244,7 +244,7 @@ func ScorePerformance(set CalibrationSet, alpha *float64) (Performance, error) {
 	}
 	sc, err := elicit.ClassicalModel(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, Overshoot: elicit.DefaultOvershoot, LogScale: set.LogScale})
 	if err != nil {
-		return Performance{}, err
+		return Performance{}, set.placeError(err)
 	}
 	p := Performance{Alpha: sc.Alpha, LogAlpha: sc.LogAlpha, AlphaRule: AlphaOptimised, Probs: set.Probs, Skipped: set.Skipped,
 		Questions: make([]int64, len(set.Questions)), Pooled: sc.Pooled, Answers: AnswersRule}
@@ -516,7 +516,7 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	}
 	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, LogScale: set.LogScale}, targets)
 	if err != nil {
-		return Robustness{}, err
+		return Robustness{}, set.placeError(err)
 	}
 	rb := Robustness{Largest: rep.MaxShift, Targets: []int64{}, Full: []TargetPool{}, Rows: []RobustnessRow{}}
 	pools := func(qs [][]float64) []TargetPool {

@@ -1,6 +1,7 @@
 package workshop_test
 
 import (
+	"errors"
 	"math"
 	"slices"
 	"strings"
@@ -442,5 +443,62 @@ func TestPerformanceInForceKeepsTheFixedCutOff(t *testing.T) {
 	}
 	if !got.InForce || got.Alpha == typed || !sameWeights(got, high) {
 		t.Errorf("stale basis: in force %v, α %v, weights %v", got.InForce, got.Alpha, got.WeightsByExpert())
+	}
+}
+
+// TestScoringErrorPlacesTheRefusal: a refusal of the classical model
+// comes back with the calibration question, and for a rule about one
+// answer the expert, revision and quantile, that broke it.
+func TestScoringErrorPlacesTheRefusal(t *testing.T) {
+	// One answer: on the log scale, a 95% quantile a step below the upper
+	// bound 1e300 has the bound's own logarithm.
+	src := workshoptest.ValveWear(true)
+	var target workshop.Revision
+	for i, q := range src.Questions {
+		if q.ID == 103 {
+			src.Questions[i].LogScale, src.Questions[i].Upper = true, 1e300
+		}
+	}
+	for i := len(src.Revisions) - 1; i >= 0; i-- {
+		if rv := src.Revisions[i]; rv.QuestionID == 103 && rv.ExpertID == 2 {
+			src.Revisions[i].Answer.Values = []float64{rv.Answer.Values[0], rv.Answer.Values[1], math.Nextafter(1e300, 0)}
+			target = src.Revisions[i]
+			break
+		}
+	}
+	set := workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	_, err := workshop.ScorePerformance(set, nil)
+	var se *workshop.ScoringError
+	var ie *elicit.InputError
+	if !errors.As(err, &se) || !errors.As(err, &ie) || ie.Rule != elicit.RuleLogScaleTooClose {
+		t.Fatalf("err %v, want a placed %q", err, elicit.RuleLogScaleTooClose)
+	}
+	if se.QuestionID != 103 || se.ExpertID != 2 || se.RevisionID != target.ID || se.Quantile != 2 {
+		t.Errorf("placed at question %d, expert %d, revision %d, quantile %d; want 103, 2, %d, 2", se.QuestionID, se.ExpertID, se.RevisionID, se.Quantile, target.ID)
+	}
+
+	// The whole question: every answer and the true value within three
+	// steps of 1, so the range widened by 10% rounds back onto them.
+	src = workshoptest.ValveWear(true)
+	u := math.Nextafter(1, 2) - 1
+	crammed := []float64{1 - 4*u, 1 - 3*u, 1 - 2*u}
+	for i, rv := range src.Revisions {
+		if rv.QuestionID == 102 {
+			src.Revisions[i].Answer.Values = crammed
+		}
+	}
+	for i, q := range src.Questions {
+		if q.ID == 102 {
+			x := 1 - 3*u
+			src.Questions[i].TrueValue = &x
+		}
+	}
+	set = workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	_, err = workshop.ScorePerformance(set, nil)
+	if !errors.As(err, &se) || !errors.As(err, &ie) || ie.Rule != elicit.RuleRangeCollapsed {
+		t.Fatalf("err %v, want a placed %q", err, elicit.RuleRangeCollapsed)
+	}
+	if se.QuestionID != 102 || se.ExpertID != 0 || se.Quantile != -1 {
+		t.Errorf("placed at question %d, expert %d, quantile %d; want 102, 0, -1", se.QuestionID, se.ExpertID, se.Quantile)
 	}
 }
