@@ -4,18 +4,23 @@ import (
 	"encoding/csv"
 	"io"
 	"strconv"
+	"strings"
 	"time"
 )
 
 // PriorsCSVHeader is the header of the agreed-priors CSV, a public
-// contract (`parley export --format priors` and the web download). The
-// last two columns travel with every row, since a row is often copied on
-// alone: invented ("true" for a demonstration workshop's made-up data)
-// and caution (Caution, the note the JSON record and the report carry).
+// contract (`parley export --format priors` and the web download). Two
+// columns travel with every row, since a row is often copied on alone:
+// invented ("true" for a demonstration workshop's made-up data) and
+// caution (Caution, the note the JSON record and the report carry). The
+// last, warnings, is the prior's own warnings as the JSON record's
+// agreed_prior carries them, one "code: message" per line, empty when
+// there is none: a 5% point written as 0 says there how far from 0 it
+// lies.
 var PriorsCSVHeader = []string{
 	"question_id", "quantity", "units", "lower", "upper", "alpha", "beta",
 	"mean", "sd", "q05", "q50", "q95", "source", "rationale", "agreed_at",
-	"invented", "caution",
+	"invented", "caution", "warnings",
 }
 
 // WritePriorsCSV writes one row per question with an agreed prior, in
@@ -42,11 +47,20 @@ func (r Record) WritePriorsCSV(w io.Writer) error {
 			source += ": " + words // which construction, and its inputs
 		}
 		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano),
-			strconv.FormatBool(r.Workshop.Invented), Caution)
+			strconv.FormatBool(r.Workshop.Invented), Caution, cell(warningLines(a.Warnings)))
 		if err := cw.Write(row); err != nil {
 			return err
 		}
 	}
 	cw.Flush()
 	return cw.Error()
+}
+
+// warningLines writes warnings one "code: message" per line.
+func warningLines(ws []Warning) string {
+	lines := make([]string, len(ws))
+	for i, w := range ws {
+		lines[i] = w.Code + ": " + w.Message
+	}
+	return strings.Join(lines, "\n")
 }

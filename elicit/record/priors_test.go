@@ -29,7 +29,7 @@ func TestWritePriorsCSV(t *testing.T) {
 	if err := r.WritePriorsCSV(&buf); err != nil {
 		t.Fatal(err)
 	}
-	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution\n"
+	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings\n"
 	if !strings.HasPrefix(buf.String(), header) {
 		t.Fatalf("header:\n%s", buf.String())
 	}
@@ -58,7 +58,7 @@ func TestWritePriorsCSV(t *testing.T) {
 				decimal(a.Dist.Lower), decimal(a.Dist.Upper), decimal(a.Dist.Alpha), decimal(a.Dist.Beta.Beta),
 				decimal(a.Mean), decimal(a.SD), decimal(a.Percentiles.P05), decimal(a.Percentiles.P50), decimal(a.Percentiles.P95),
 				string(a.Source), a.Rationale, a.At.UTC().Format(time.RFC3339Nano),
-				strconv.FormatBool(back.Workshop.Invented), back.Caution})
+				strconv.FormatBool(back.Workshop.Invented), back.Caution, ""})
 		}
 	}
 	if len(want) != 1 || len(rows) != 2 {
@@ -77,3 +77,72 @@ func TestWritePriorsCSV(t *testing.T) {
 }
 
 func decimal(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+
+// A prior whose 5% and 95% points are written as the bounds carries its
+// warning in the priors CSV, as the JSON record's agreed_prior does: the
+// row alone says the 0 in q05 is not 0. Beta(2e-4, 2e-4) puts its 5%
+// point near 1e-5000 (the figure itself is checked against R by
+// elicit's TestPointsHeldAsABoundAreSaid; here only that the row carries
+// the record's words).
+func TestPriorsCSVCarriesAPointWrittenAsABound(t *testing.T) {
+	src := workshoptest.PumpSeals()
+	last := &src.Priors[len(src.Priors)-1]
+	last.Dist.Alpha, last.Dist.Beta.Beta = 2e-4, 2e-4
+	r, err := Build(src, t0.Add(time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := r.WritePriorsCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	js, err := json.Marshal(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back Record
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	var a *Prior
+	var agreed Question
+	for _, q := range back.Questions {
+		if q.AgreedPrior != nil {
+			a, agreed = q.AgreedPrior, q
+		}
+	}
+	var beyond string
+	for _, w := range a.Warnings {
+		if w.Code == "beyond_double" {
+			beyond = w.Message
+		}
+	}
+	if beyond == "" {
+		t.Fatalf("the JSON record's agreed_prior carries no beyond_double warning: %+v", a.Warnings)
+	}
+	cellText := rows[1][len(PriorsCSVHeader)-1]
+	if rows[1][9] != "0" || !strings.Contains(cellText, "beyond_double: "+beyond) {
+		t.Errorf("q05 %q, warnings %q: want 0 and the record's beyond_double warning %q", rows[1][9], cellText, beyond)
+	}
+	// One warning per line, each "code: message".
+	for _, line := range strings.Split(cellText, "\n") {
+		code, msg, ok := strings.Cut(line, ": ")
+		if !ok || code == "" || msg == "" {
+			t.Errorf("warning line %q is not code: message", line)
+		}
+	}
+	// A record whose warnings were changed is not read back (the check
+	// of the current prior; the whole record's would first refuse this
+	// consensus prior, which its answer does not fit).
+	if err := checkCurrentPrior("agreed_prior", agreed); err != nil {
+		t.Fatalf("the record as written: %v", err)
+	}
+	a.Warnings[0].Message = "all is well"
+	if err := checkCurrentPrior("agreed_prior", agreed); err == nil || !strings.Contains(err.Error(), "agreed_prior.warnings") {
+		t.Errorf("a changed prior warning is read back: %v", err)
+	}
+}

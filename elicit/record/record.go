@@ -182,6 +182,10 @@ type Prior struct {
 	SD          float64              `json:"sd"`
 	Percentiles workshop.Percentiles `json:"percentiles"`
 	Snippets    []Snippet            `json:"snippets"`
+	// Warnings are the prior's own (elicit.PriorWarnings): its shape, its
+	// weight, and a 5%, 50% or 95% point written as a bound with its
+	// value. A record written before they were kept has none.
+	Warnings []Warning `json:"warnings,omitempty"`
 }
 
 // newPrior summarises an agreed prior for the record.
@@ -189,7 +193,16 @@ func newPrior(p workshop.AgreedPrior) *Prior {
 	d := p.Dist
 	return &Prior{AgreedPrior: p, Mean: d.Mean(), SD: d.SD(),
 		Percentiles: workshop.Percentiles{P05: d.Quantile(0.05), P50: d.Quantile(0.5), P95: d.Quantile(0.95)},
-		Snippets:    PriorSnippets(d)}
+		Snippets:    PriorSnippets(d), Warnings: priorWarnings(d)}
+}
+
+// priorWarnings are elicit.PriorWarnings in the record's form.
+func priorWarnings(d elicit.ScaledBeta) []Warning {
+	out := []Warning{}
+	for _, w := range elicit.PriorWarnings(d) {
+		out = append(out, Warning{Code: string(w.Code), Message: w.Message})
+	}
+	return out
 }
 
 // Snippet is a prior written in one modelling language's notation.

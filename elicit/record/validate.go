@@ -351,6 +351,11 @@ func checkCurrentPrior(p string, q Question) error {
 			return inputErr(p+"."+c.name, RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", c.got, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, c.want)
 		}
 	}
+	// Warnings are the Beta's own; a record from before they were kept
+	// has none to check.
+	if cur.Warnings != nil && !slices.Equal(cur.Warnings, priorWarnings(d)) {
+		return inputErr(p+".warnings", RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", cur.Warnings, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, priorWarnings(d))
+	}
 	return nil
 }
 
