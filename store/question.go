@@ -102,7 +102,9 @@ func readQuestions(ctx context.Context, db querier, workshopID int64) ([]worksho
 // first reveal freezes the answers: it stores its time and the question's
 // last revision id, and from then on SaveRevision refuses the question
 // (workshop.ErrAnswersFrozen). Saves and the reveal go through the one
-// writer, so no save slips in between.
+// writer, so no save slips in between. The first reveal's event carries
+// the freeze as stored (workshop.Reveal), which the record checks the
+// question's row against; a later one carries the new value only.
 func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64, reveal bool, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		q, err := questionInTx(ctx, tx, questionID)
@@ -136,15 +138,25 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			})
 		}
 		at := now()
+		shown := workshop.Reveal{TrueValue: value}
 		if !q.Revealed {
-			if _, err := tx.ExecContext(ctx,
-				`UPDATE questions SET revealed_at = ?,
-				 revealed_through = COALESCE((SELECT MAX(id) FROM revisions WHERE question_id = ?), 0)
-				 WHERE id = ?`, formatTime(at), questionID, questionID); err != nil {
+			// The freeze is recorded in the event as set, so the record
+			// can tell a row whose freeze was moved afterwards.
+			var through int64
+			if err := tx.QueryRowContext(ctx,
+				`SELECT COALESCE(MAX(id), 0) FROM revisions WHERE question_id = ?`, questionID).Scan(&through); err != nil {
 				return fmt.Errorf("store: reveal: %w", err)
 			}
+			if _, err := tx.ExecContext(ctx, `UPDATE questions SET revealed_at = ?, revealed_through = ? WHERE id = ?`,
+				formatTime(at), through, questionID); err != nil {
+				return fmt.Errorf("store: reveal: %w", err)
+			}
+			shown.RevealedAt, shown.RevealedThrough = &at, &through
 		}
-		detail, _ := json.Marshal(map[string]float64{"true_value": value})
+		detail, err := json.Marshal(shown)
+		if err != nil {
+			return fmt.Errorf("store: reveal: %w", err)
+		}
 		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventTruthRevealed,
 			At: at, Reason: reason, Detail: string(detail),

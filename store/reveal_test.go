@@ -2,6 +2,7 @@ package store
 
 import (
 	"context"
+	"encoding/json"
 	"errors"
 	"path/filepath"
 	"testing"
@@ -33,6 +34,12 @@ func TestRevealFreezesAnswers(t *testing.T) {
 		t.Fatalf("after the reveal: revealed %v at %v through %d, want through %d", got.Revealed, got.RevealedAt, got.RevealedThrough, first.ID)
 	}
 	revealedAt := *got.RevealedAt
+	// The reveal's event carries the freeze as stored, for the record to
+	// check the row against.
+	if d := lastReveal(t, db, p.w.ID); d.RevealedAt == nil || !d.RevealedAt.Equal(revealedAt) ||
+		d.RevealedThrough == nil || *d.RevealedThrough != first.ID || d.TrueValue != 0.3 {
+		t.Fatalf("the reveal's event %+v, want the freeze at %v through %d", d, revealedAt, first.ID)
+	}
 
 	late := workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[1].ID, Answer: a}
 	if err := db.SaveRevision(ctx, &late); !errors.Is(err, workshop.ErrAnswersFrozen) {
@@ -51,6 +58,25 @@ func TestRevealFreezesAnswers(t *testing.T) {
 	if !got.RevealedAt.Equal(revealedAt) || got.RevealedThrough != first.ID {
 		t.Fatalf("a second reveal moved the freeze: at %v through %d", got.RevealedAt, got.RevealedThrough)
 	}
+	if d := lastReveal(t, db, p.w.ID); d.RevealedAt != nil || d.RevealedThrough != nil || d.TrueValue != 0.31 {
+		t.Fatalf("the second reveal's event %+v, want the new value and no freeze (it sets none)", d)
+	}
+}
+
+// lastReveal is the detail of the workshop's last event, which must be a
+// reveal.
+func lastReveal(t *testing.T, db *DB, workshopID int64) workshop.Reveal {
+	t.Helper()
+	evs, err := db.Events(context.Background(), workshopID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	last := evs[len(evs)-1]
+	var d workshop.Reveal
+	if last.Kind != workshop.EventTruthRevealed || json.Unmarshal([]byte(last.Detail), &d) != nil {
+		t.Fatalf("last event %+v, want a reveal", last)
+	}
+	return d
 }
 
 // A database revealed under version 4, when saves after a reveal were

@@ -265,6 +265,18 @@ type SheetImport struct {
 	Revisions []int64 `json:"revisions,omitempty"`
 }
 
+// Reveal is a truth_revealed event's detail: the true value shown to the
+// experts and, on the question's first reveal, the freeze that reveal set
+// (Question.RevealedAt and RevealedThrough), which decides the answers
+// Cooke's classical model scores. A later reveal (a change of the value
+// already shown) sets no freeze and carries none; nor do reveals recorded
+// before Parley wrote it, whose freeze the record cannot check.
+type Reveal struct {
+	TrueValue       float64    `json:"true_value"`
+	RevealedAt      *time.Time `json:"revealed_at,omitempty"`
+	RevealedThrough *int64     `json:"revealed_through,omitempty"`
+}
+
 // EventKinds lists every event kind, in the order they were introduced.
 var EventKinds = []EventKind{
 	EventWorkshopCreated, EventRoundClosed, EventRoundOpened, EventWeightsSet, EventPriorAgreed,
