@@ -369,16 +369,18 @@ func (imp importer) prior(ap workshop.AgreedPrior) error {
 }
 
 // remapDetail rewrites the expert and revision IDs in an event's detail:
-// an "expert_id" or "revision_id" number, the numbers of a "revisions"
-// list and the keys of a "by_expert" object. A detail whose IDs do not change, or that is not a JSON object,
-// is kept byte for byte.
+// an "expert_id" or "revision_id" number, a reveal's "revealed_through"
+// (the revision frozenThrough maps the question's freeze to), the numbers
+// of a "revisions" list and the keys of a "by_expert" object. A detail
+// whose IDs do not change, or that is not a JSON object, is kept byte for
+// byte.
 func remapDetail(detail string, experts, revisions map[int64]int64) string {
 	var m map[string]json.RawMessage
 	if detail == "" || json.Unmarshal([]byte(detail), &m) != nil {
 		return detail
 	}
 	changed := false
-	for key, ids := range map[string]map[int64]int64{"expert_id": experts, "revision_id": revisions} {
+	for key, ids := range map[string]map[int64]int64{"expert_id": experts, "revision_id": revisions, "revealed_through": revisions} {
 		raw, ok := m[key]
 		if !ok {
 			continue

@@ -199,6 +199,23 @@ func TestImportRoundTrip(t *testing.T) {
 	if copyRec.Questions[0].AgreedPrior.Dist != rec.Questions[0].AgreedPrior.Dist {
 		t.Fatalf("agreed prior %+v, want %+v", copyRec.Questions[0].AgreedPrior.Dist, rec.Questions[0].AgreedPrior.Dist)
 	}
+	// The reveal's event names the copy's own freeze, the revision that
+	// stands where the record's did.
+	seed := copyRec.Questions[1]
+	var reveal workshop.Reveal
+	for _, e := range copyRec.Events {
+		if e.QuestionID == seed.ID && e.Kind == workshop.EventTruthRevealed {
+			must(t, json.Unmarshal([]byte(e.Detail), &reveal))
+		}
+	}
+	if reveal.RevealedThrough == nil {
+		t.Fatal("the copy's reveal carries no freeze")
+	}
+	if named := *reveal.RevealedThrough; seed.RevealedThrough == rec.Questions[1].RevealedThrough || named != seed.RevealedThrough ||
+		!byID(copyRec)[seed.RevealedThrough].At.Equal(byID(rec)[rec.Questions[1].RevealedThrough].At) {
+		t.Errorf("the copy's reveal names revision %d, its question is frozen through %d (the record's through %d)",
+			named, seed.RevealedThrough, rec.Questions[1].RevealedThrough)
+	}
 }
 
 func TestImportInvalidWritesNothing(t *testing.T) {
@@ -242,6 +259,10 @@ func TestRemapDetail(t *testing.T) {
 		{`{"expert_id":4}`, `{"expert_id":4}`},
 		{`{"scheme":"custom","by_expert":{"3":2,"4":1}}`, `{"by_expert":{"30":2,"4":1},"scheme":"custom"}`},
 		{`{"sha256":"ab","rows":[2,3],"channel":"file","revisions":[3,9]}`, `{"channel":"file","revisions":[7,90],"rows":[2,3],"sha256":"ab"}`},
+		{`{"true_value":0.3,"revealed_at":"2026-11-01T10:30:00Z","revealed_through":9}`,
+			`{"revealed_at":"2026-11-01T10:30:00Z","revealed_through":90,"true_value":0.3}`},
+		{`{"true_value":0.3,"revealed_at":"2026-11-01T10:30:00Z","revealed_through":0}`,
+			`{"true_value":0.3,"revealed_at":"2026-11-01T10:30:00Z","revealed_through":0}`},
 		{`{"round":2}`, `{"round":2}`},
 		{`not json`, `not json`},
 		{``, ``},
