@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"strings"
 	"testing"
 
@@ -77,5 +78,94 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		if err := parse(); err != nil {
 			t.Fatalf("set back after %s: %v", c.update, err)
 		}
+	}
+}
+
+// A reveal's freeze (its time and the question's last revision then,
+// after which no answer is scored) is bound to the reveal's event: moved
+// in the database or in the exported file, the record is refused naming
+// the field. A reveal recorded before its event carried the freeze is
+// not checked for it, and its record still reads.
+func TestRevealFreezeChangedWithoutAnEventIsRefused(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	q := p.qs[1] // the calibration question
+	var revs []workshop.Revision
+	for _, s := range []struct {
+		expert int
+		best   float64
+	}{{0, 0.2}, {0, 0.25}, {1, 0.4}} {
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: p.experts[s.expert].ID,
+			Answer: workshop.Answer{Lowest: 0.1, Highest: 0.6, Best: s.best, Confidence: 0.8}}
+		must(t, db.SaveRevision(ctx, &rv))
+		revs = append(revs, rv)
+	}
+	must(t, db.SetTrueValue(ctx, q.ID, 0.3, true, "the audit report (invented)"))
+	must(t, db.SetTrueValue(ctx, q.ID, 0.31, true, "a typo in the report (invented)"))
+	parse := func(b []byte) error {
+		_, err := record.Parse(bytes.NewReader(b))
+		return err
+	}
+	refused := func(err error, field string) bool {
+		var ie *elicit.InputError
+		return errors.As(err, &ie) && ie.Field == field && ie.Rule == record.RuleDefinitionMismatch
+	}
+	first := exportJSON(t, db, p.w.ID)
+	if err := parse(first); err != nil {
+		t.Fatalf("the record of a reveal made through Parley: %v", err)
+	}
+	var stored struct {
+		at      string
+		through int64
+	}
+	must(t, db.r.QueryRowContext(ctx, `SELECT revealed_at, revealed_through FROM questions WHERE id = ?`, q.ID).
+		Scan(&stored.at, &stored.through))
+	if stored.through != revs[2].ID {
+		t.Fatalf("frozen through %d, want the last revision %d", stored.through, revs[2].ID)
+	}
+	for _, c := range []struct {
+		update string
+		arg    any
+		field  string
+	}{
+		// An earlier answer of the first expert scored, the second's not.
+		{`UPDATE questions SET revealed_through = ? WHERE id = ?`, revs[0].ID, "questions[1].revealed_through"},
+		// 0 scores every answer, whenever saved.
+		{`UPDATE questions SET revealed_through = ? WHERE id = ?`, 0, "questions[1].revealed_through"},
+		{`UPDATE questions SET revealed_at = ? WHERE id = ?`, "2026-01-01T00:00:00Z", "questions[1].revealed_at"},
+	} {
+		_, err := db.w.ExecContext(ctx, c.update, c.arg, q.ID)
+		must(t, err)
+		if err := parse(exportJSON(t, db, p.w.ID)); !refused(err, c.field) {
+			t.Errorf("%s (%v): the record reads with %v, want %s refused (%s)", c.update, c.arg, err, c.field, record.RuleDefinitionMismatch)
+		}
+		_, err = db.w.ExecContext(ctx, `UPDATE questions SET revealed_at = ?, revealed_through = ? WHERE id = ?`, stored.at, stored.through, q.ID)
+		must(t, err)
+	}
+	// The same change in the exported file.
+	was := fmt.Sprintf(`"revealed_through": %d,`, revs[2].ID)
+	if n := bytes.Count(first, []byte(was)); n != 1 {
+		t.Fatalf("the record holds %s %d times, want once", was, n)
+	}
+	edited := bytes.Replace(first, []byte(was), []byte(fmt.Sprintf(`"revealed_through": %d,`, revs[1].ID)), 1)
+	if err := parse(edited); !refused(err, "questions[1].revealed_through") {
+		t.Errorf("revealed_through edited in the file: the record reads with %v, want it refused", err)
+	}
+
+	// A reveal recorded before the event carried the freeze: the record
+	// reads, and its freeze is not checked.
+	_, err := db.w.ExecContext(ctx, `DROP TRIGGER events_no_update`)
+	must(t, err)
+	_, err = db.w.ExecContext(ctx, `UPDATE events SET detail = '{"true_value":0.3}' WHERE question_id = ? AND kind = ? AND detail LIKE '%revealed_through%'`,
+		q.ID, workshop.EventTruthRevealed)
+	must(t, err)
+	if err := parse(exportJSON(t, db, p.w.ID)); err != nil {
+		t.Fatalf("a reveal without the freeze in its event: %v", err)
+	}
+	_, err = db.w.ExecContext(ctx, `UPDATE questions SET revealed_through = ? WHERE id = ?`, revs[0].ID, q.ID)
+	must(t, err)
+	if err := parse(exportJSON(t, db, p.w.ID)); err != nil {
+		t.Fatalf("a reveal without the freeze in its event, its freeze moved: %v", err)
 	}
 }

@@ -216,6 +216,10 @@ func TestImportRoundTrip(t *testing.T) {
 		t.Errorf("the copy's reveal names revision %d, its question is frozen through %d (the record's through %d)",
 			named, seed.RevealedThrough, rec.Questions[1].RevealedThrough)
 	}
+	// So the copy's own record reads, its freeze bound to its reveal.
+	if _, err := record.Parse(bytes.NewReader(exportJSON(t, src, again))); err != nil {
+		t.Fatalf("the copy's record: %v", err)
+	}
 }
 
 func TestImportInvalidWritesNothing(t *testing.T) {

@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"reflect"
 	"slices"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -14,7 +15,9 @@ import (
 // bounds, format, probabilities, scoring, true value once revealed) is
 // not the one its chained events give: its question_added event's
 // definition with each later correction, change of background and reveal
-// applied; or by an expert whose revocation, which keeps their answers
+// applied; by a question whose freeze (revealed_at, revealed_through:
+// which answers are scored) is not the one its first reveal's event
+// gives; or by an expert whose revocation, which keeps their answers
 // out of the pool, is not the one their expert_revoked and
 // token_reissued events give.
 const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
@@ -28,7 +31,10 @@ const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decis
 // none and their questions are not checked) must have the definition
 // that event, the question_edited events' "after" values, the
 // calibration_background_set events and the truth_revealed events give,
-// in the log's order. The chain makes the events tamper-evident; this
+// in the log's order. A question whose truth_revealed event carries the
+// freeze it set (workshop.Reveal; reveals recorded before it did carry
+// none and are not checked for it) must have that revealed_at and
+// revealed_through. The chain makes the events tamper-evident; this
 // binds the questions' own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
 	for i, e := range r.Experts {
@@ -38,6 +44,9 @@ func (r Record) CheckDefinitions() error {
 		}
 	}
 	for i, q := range r.Questions {
+		if err := r.checkFreeze(i, q.Question); err != nil {
+			return err
+		}
 		state, fields, ok := r.replayDefinition(q.ID)
 		if !ok {
 			continue
@@ -118,6 +127,47 @@ func (r Record) replayDefinition(id int64) (map[string]any, []string, bool) {
 		state["log_uniform_background"] = nil
 	}
 	return state, fields, true
+}
+
+// checkFreeze checks question q, the record's i-th, against the freeze
+// its first reveal recorded: the reveal's time and the question's last
+// revision then, after which no answer is scored. Each part is checked
+// when the reveal carries it; a later reveal (a change of the value
+// shown) sets no freeze, so only the first that carries one counts.
+func (r Record) checkFreeze(i int, q workshop.Question) error {
+	var at *time.Time
+	var through *int64
+	for _, e := range r.Events {
+		if e.QuestionID != q.ID || e.Kind != workshop.EventTruthRevealed {
+			continue
+		}
+		var d workshop.Reveal
+		if json.Unmarshal([]byte(e.Detail), &d) != nil {
+			continue
+		}
+		if at == nil {
+			at = d.RevealedAt
+		}
+		if through == nil {
+			through = d.RevealedThrough
+		}
+	}
+	if at != nil && (q.RevealedAt == nil || !q.RevealedAt.Equal(*at)) {
+		return inputErr(fmt.Sprintf("questions[%d].revealed_at", i), RuleDefinitionMismatch,
+			"the record has %s, its reveal gives %s", timeText(q.RevealedAt), timeText(at))
+	}
+	if through != nil && q.RevealedThrough != *through {
+		return inputErr(fmt.Sprintf("questions[%d].revealed_through", i), RuleDefinitionMismatch,
+			"the record has revision %d, its reveal gives revision %d", q.RevealedThrough, *through)
+	}
+	return nil
+}
+
+func timeText(t *time.Time) string {
+	if t == nil {
+		return "none"
+	}
+	return t.UTC().Format(time.RFC3339Nano)
 }
 
 // replayRevoked is whether expert id is revoked as the events give it:
