@@ -1,6 +1,7 @@
 package store
 
 import (
+	"bytes"
 	"context"
 	"encoding/json"
 	"errors"
@@ -8,6 +9,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -345,5 +347,50 @@ func TestSaveChecksTheQuestionAsItNowStands(t *testing.T) {
 				}
 			}
 		})
+	}
+}
+
+// A question whose true value has been shown stays a calibration question
+// with a true value: a correction (even before any answer) that unticks
+// it or clears the value is refused, naming the field, and the record
+// still reads. Before, the correction was taken and kept the reveal, and
+// the workshop's record could no longer be read back ("only a calibration
+// question whose true value is revealed has a reveal").
+func TestCorrectionKeepsARevealedQuestionACalibrationQuestion(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
+	must(t, db.CreateWorkshop(ctx, &w))
+	cal := workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
+		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+	must(t, db.AddQuestion(ctx, &cal))
+	must(t, db.SetTrueValue(ctx, cal.ID, 420, true, "the inspection report"))
+	shown, err := db.Question(ctx, cal.ID)
+	must(t, err)
+	for _, c := range []struct {
+		field string
+		rule  elicit.Rule
+		edit  func(*workshop.Question)
+	}{
+		{"calibration", workshop.RuleRevealedCalibration, func(q *workshop.Question) { q.Calibration, q.TrueValue = false, nil }},
+		{"true_value", workshop.RuleRevealedTruth, func(q *workshop.Question) { q.TrueValue = nil }},
+	} {
+		next := shown
+		c.edit(&next)
+		var ie *elicit.InputError
+		if err := db.EditQuestion(ctx, next, "not a calibration question after all"); !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != c.rule {
+			t.Errorf("%s: %v, want %s refused with %q", c.field, err, c.field, c.rule)
+		}
+	}
+	if again, _ := db.Question(ctx, cal.ID); !again.Calibration || again.TrueValue == nil {
+		t.Fatalf("a refused correction changed the question: %+v", again)
+	}
+	// A new value shown through a correction is still taken.
+	next := shown
+	v := 430.0
+	next.TrueValue = &v
+	must(t, db.EditQuestion(ctx, next, "the report's corrected count"))
+	if _, err := record.Parse(bytes.NewReader(exportJSON(t, db, w.ID))); err != nil {
+		t.Fatalf("the record after the corrections: %v", err)
 	}
 }

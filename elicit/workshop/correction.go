@@ -14,6 +14,12 @@ const (
 	RuleNothingChanged     elicit.Rule = "nothing to change"
 	RuleArchived           elicit.Rule = "the workshop is archived"
 	RuleHasAnswers         elicit.Rule = "the workshop has answers or agreed priors: archive it instead"
+	// RuleRevealedCalibration and RuleRevealedTruth keep a question whose
+	// true value has been shown to the experts a calibration question
+	// with a true value: its reveal, the time and the answers it froze,
+	// belongs to one (and the record refuses a reveal on any other).
+	RuleRevealedCalibration elicit.Rule = "must stay ticked once the question's true value has been shown to the experts"
+	RuleRevealedTruth       elicit.Rule = "must stay set once it has been shown to the experts (a new value can be shown from the calibration page)"
 )
 
 // CheckCorrection reports whether q may become next. Before any expert
@@ -23,11 +29,21 @@ const (
 // probabilities, the bins and the chips stay as they were, and a
 // calibration question stays one (or not); so then only the wording, the
 // quantity and the units may change, and the first locked field that
-// differs is named with RuleLockedAfterAnswers. The ID, workshop,
+// differs is named with RuleLockedAfterAnswers. Once its true value has
+// been shown, a question stays a calibration question with a true value
+// (RuleRevealedCalibration, RuleRevealedTruth). The ID, workshop,
 // position and reveal state are not the correction's to change.
 func (q Question) CheckCorrection(next Question, answered bool) error {
 	if err := next.Validate(); err != nil {
 		return err
+	}
+	if q.Frozen() {
+		if !next.Calibration {
+			return inputErr("calibration", RuleRevealedCalibration, "")
+		}
+		if next.TrueValue == nil {
+			return inputErr("true_value", RuleRevealedTruth, "")
+		}
 	}
 	if answered {
 		locked := []struct {
