@@ -1,12 +1,10 @@
 package elicit
 
 import (
-	"errors"
 	"fmt"
 	"math"
 	"sort"
 	"strconv"
-	"strings"
 
 	"gonum.org/v1/gonum/stat/distuv"
 )
@@ -963,82 +961,6 @@ func minimalInformation(q, probs []float64, lo, hi float64) PiecewiseUniform {
 	x = append(append(append(x, lo), q...), hi)
 	f = append(append(append(f, 0), probs...), 1)
 	return PiecewiseUniform{X: x, F: f}
-}
-
-// PoolMinimalInformation is the linear opinion pool, with the given
-// weights, of the experts' minimal-information distributions on one
-// question without a realisation (a target question), e.g. with the
-// weights of ClassicalModel. answers maps each expert to quantiles at
-// probs; the intrinsic range is built from all answers as in
-// ClassicalModel, widened by overshoot (0 means DefaultOvershoot) and cut
-// to bounds when bounds is not nil. Experts missing from weights get
-// weight 0; the weights of the answering experts must not all be zero.
-func poolMinimalInformation(answers map[string][]float64, probs []float64, weights map[string]float64, bounds *[2]float64, overshoot float64) (PiecewiseUniform, error) {
-	if len(answers) == 0 {
-		return PiecewiseUniform{}, inputErr("answers", RuleCount, "need at least 1 expert, got 0")
-	}
-	names := make([]string, 0, len(answers))
-	for e := range answers {
-		names = append(names, e)
-	}
-	sort.Strings(names)
-	const target = "target"
-	as := make([]SeedAssessment, len(names))
-	for i, e := range names {
-		as[i] = SeedAssessment{Expert: e, Question: target, Probs: probs, Quantiles: answers[e]}
-	}
-	var bm map[string][2]float64
-	if bounds != nil {
-		bm = map[string][2]float64{target: *bounds}
-	}
-	// A target has no realisation; the first expert's lowest quantile
-	// stands in, as it lies inside the answers' span and leaves the range
-	// as it is.
-	var stand float64
-	if len(answers[names[0]]) > 0 {
-		stand = answers[names[0]][0]
-	}
-	set, err := newSeedSet(as, map[string]float64{target: stand}, bm, overshoot, nil)
-	if err != nil {
-		return PiecewiseUniform{}, renameAssessments(err, names)
-	}
-	w := make([]float64, len(set.experts))
-	for i, e := range set.experts {
-		v, ok := weights[e]
-		if !ok {
-			continue
-		}
-		if math.IsNaN(v) || math.IsInf(v, 0) {
-			return PiecewiseUniform{}, inputErr(fmt.Sprintf("weights[%q]", e), RuleFinite, "got %v", v)
-		}
-		if v < 0 {
-			return PiecewiseUniform{}, inputErr(fmt.Sprintf("weights[%q]", e), RuleNonNegative, "got %v", v)
-		}
-		w[i] = v
-	}
-	d, ok := set.poolQuestion(set.questions[0], w)
-	if !ok {
-		return PiecewiseUniform{}, inputErr("weights", RuleWeightsNotAllZero, "no answering expert has weight")
-	}
-	return d, nil
-}
-
-// renameAssessments turns an assessments[i] field back into the expert's
-// name for PoolMinimalInformation's errors.
-func renameAssessments(err error, names []string) error {
-	var ie *InputError
-	if !errors.As(err, &ie) {
-		return err
-	}
-	for i, e := range names {
-		p := fmt.Sprintf("assessments[%d]", i)
-		if strings.HasPrefix(ie.Field, p) {
-			c := *ie
-			c.Field = fmt.Sprintf("answers[%q]", e) + strings.TrimPrefix(ie.Field, p)
-			return &c
-		}
-	}
-	return err
 }
 
 // BelowDouble reports whether a score c with logarithm logC is below the

@@ -511,52 +511,6 @@ func TestDecisionMakerQuantiles(t *testing.T) {
 	}
 }
 
-func TestPoolMinimalInformation(t *testing.T) {
-	answers := map[string][]float64{"A": {2, 5, 8}, "B": {4, 5, 6}}
-	d, err := poolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 0}, nil, 0)
-	if err != nil {
-		t.Fatal(err)
-	}
-	// Only A has weight: its own quantiles; range [1.4, 8.6] as by hand.
-	for i, p := range seedProbs {
-		if got := d.Quantile(p); math.Abs(got-[]float64{2, 5, 8}[i]) > 1e-12 {
-			t.Errorf("quantile %v = %v", p, got)
-		}
-	}
-	if d.Quantile(0) != 1.4 || math.Abs(d.Quantile(1)-8.6) > 1e-12 {
-		t.Errorf("range [%v, %v], want [1.4, 8.6]", d.Quantile(0), d.Quantile(1))
-	}
-	// Bounds cut the range: [0, 8] → [1.4, 8].
-	d, err = poolMinimalInformation(answers, seedProbs, map[string]float64{"A": 1, "B": 1}, &[2]float64{0, 8.5}, 0)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if d.Quantile(1) != 8.5 {
-		t.Errorf("cut upper end %v, want 8.5", d.Quantile(1))
-	}
-	// Equal weights, median: both medians are 5, so the pool's is 5.
-	if got := d.Quantile(0.5); math.Abs(got-5) > 1e-12 {
-		t.Errorf("pooled median %v, want 5", got)
-	}
-	for _, c := range []struct {
-		name    string
-		answers map[string][]float64
-		weights map[string]float64
-		rule    Rule
-	}{
-		{"no weight", answers, map[string]float64{"C": 1}, RuleWeightsNotAllZero},
-		{"negative weight", answers, map[string]float64{"A": -1}, RuleNonNegative},
-		{"NaN weight", answers, map[string]float64{"A": math.NaN()}, RuleFinite},
-		{"non-increasing", map[string][]float64{"A": {2, 2, 8}}, map[string]float64{"A": 1}, RuleValueIncreasing},
-		{"none", nil, nil, RuleCount},
-	} {
-		_, err := poolMinimalInformation(c.answers, seedProbs, c.weights, nil, 0)
-		if !calHasRule(err, c.rule) {
-			t.Errorf("%s: got %v, want %q", c.name, err, c.rule)
-		}
-	}
-}
-
 func TestClassicalModelBadInput(t *testing.T) {
 	good := func() ([]SeedAssessment, map[string]float64, map[string][2]float64) {
 		as, real := handSeeds()
