@@ -181,3 +181,35 @@ func TestCalibrationPageSaysTheHeldPanelShowsTheSeeds(t *testing.T) {
 		t.Error("the calibration page does not say that the held panel shows the calibration questions")
 	}
 }
+
+// reasonHint is the text of an expert page's hint under the reason box.
+var reasonHint = regexp.MustCompile(`id="f-reason-hint">([^<]*)<`)
+
+// The hint under the reason box tells no question apart: in round 1 it
+// reads the same on a calibration question as on any other (a different
+// hint would tell the experts which questions score them), and it
+// promises nothing a held-back panel breaks: before its true value is
+// shown, a calibration question's reasons are not shown in the next
+// round, so "from the next round the other experts see it" was untrue
+// there.
+func TestTheReasonHintTellsNoQuestionApart(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	hint := func(path string) string {
+		t.Helper()
+		_, page := g.get(path)
+		m := reasonHint.FindStringSubmatch(page)
+		if m == nil {
+			t.Fatalf("%s has no reason hint", path)
+		}
+		return m[1]
+	}
+	ordinary, calibration := hint(g.qpath(0, g.q)), hint(g.qpath(0, g.qcal))
+	if ordinary != calibration {
+		t.Errorf("round 1: the reason hint differs on a calibration question:\n%q\n%q", ordinary, calibration)
+	}
+	g.secondRound()
+	held := hint(g.qpath(0, g.qcal))
+	if strings.Contains(strings.ToLower(held), "next round") {
+		t.Errorf("round 2, the panel held back: the hint promises the next round: %q", held)
+	}
+}
