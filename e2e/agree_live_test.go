@@ -9,8 +9,6 @@ import (
 	"testing"
 
 	"github.com/chromedp/chromedp"
-
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestAgreeThePoolShownAfterALiveUpdateInBrowser: the prior agreed from
@@ -22,15 +20,9 @@ import (
 // record stayed in the form, outside the live part, the click would be
 // refused as a pool changed since the page was drawn.
 func TestAgreeThePoolShownAfterALiveUpdateInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	links, err := web.SeedDemo(ctx, site.DB)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	w := ws[0]
-	qs, _ := site.DB.Questions(ctx, w.ID)
+	links, w, qs := d.links, d.w, d.qs
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	shots := newScreenshots(t)

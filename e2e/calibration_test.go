@@ -10,7 +10,6 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // minSVGText is the smallest a picture's text may be drawn, in CSS pixels.
@@ -67,21 +66,13 @@ func checkLayout(t *testing.T, p *person, where, css string, width int) {
 // panel and the printable report say how weak they are, and the report
 // shows the scores behind them.
 func TestCalibrationScreenInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
 	b := startBrowser(t)
 	shots := newScreenshots(t)
 	fac := b.person("facilitator")
 	signIn(t, site, fac)
-	wss, err := site.DB.Workshops(ctx)
-	if err != nil || len(wss) != 1 {
-		t.Fatalf("demo workshops %v, %v", wss, err)
-	}
-	ws := wss[0]
-	base := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
+	ws, base := d.w, d.url
 	page := base + "/calibration"
 	pictures := ".chart-weight-map .chart-svg, .chart-steadiness .chart-svg"
 
@@ -163,21 +154,13 @@ func TestCalibrationScreenInBrowser(t *testing.T) {
 // "Information scored on the log scale". axe-core finds no serious or
 // critical violation with the form open and refused.
 func TestCalibrationScaleFormInBrowser(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
+	site, d := startDemo(t)
 	axe := axeSourceOrNothing(t)
 	b := startBrowser(t)
 	shots := newScreenshots(t)
 	fac := b.person("facilitator")
 	signIn(t, site, fac)
-	wss, err := site.DB.Workshops(ctx)
-	if err != nil || len(wss) != 1 {
-		t.Fatalf("demo workshops %v, %v", wss, err)
-	}
-	page := site.URL + "/w/" + strconv.FormatInt(wss[0].ID, 10) + "/calibration"
+	page := d.url + "/calibration"
 	form := `details.background-choice form`
 	for _, width := range []int{1366, 390} {
 		fac.viewport(int64(width), 900, width < 500)

@@ -1,12 +1,9 @@
 package e2e
 
 import (
-	"context"
 	"strconv"
 	"strings"
 	"testing"
-
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestOverviewCellsKeepTheirCountWhole: on the projector (1366 px) the
@@ -14,18 +11,13 @@ import (
 // "answered (1" over "save)". A cell may wrap before its count, never
 // inside it.
 func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
+	site, d := startDemo(t)
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)
-		fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/")
+		fac.open(d.url + "/")
 		broken := eval[[]string](fac, "the answer cells' counts", `Array.from(document.querySelectorAll("#answered tbody td")).filter(td => {
 			const w = document.createTreeWalker(td, NodeFilter.SHOW_TEXT);
 			const r = document.createRange();
@@ -59,15 +51,8 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 // page its pools of the target questions. On a phone each row is now a
 // block of labelled lines.
 func TestDemoTablesOnAPhone(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	es, _ := site.DB.Experts(ctx, ws[0].ID)
-	qs, _ := site.DB.Questions(ctx, ws[0].ID)
-	wsURL := site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10)
+	site, d := startDemo(t)
+	es, qs, wsURL := d.experts, d.qs, d.url
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
@@ -109,19 +94,14 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 // compared, with room to spare in the columns beside it. A Beta is read
 // whole.
 func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	site, d := startDemo(t)
+	qs := d.qs
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)
-		fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
+		fac.open(d.url + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
 		broken := eval[[]string](fac, "the Betas compared", `Array.from(document.querySelectorAll(".compare-table td")).filter(td => td.textContent.trim().startsWith("Beta(")).filter(td => {
 			const r = document.createRange(); r.selectNodeContents(td);
 			return new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size > 1;
@@ -142,17 +122,12 @@ func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
 // other pictures do: every row's label and shift on the screen, none
 // smaller than 11 px, nothing to scroll.
 func TestSteadinessPictureOnAPhone(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
+	site, d := startDemo(t)
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
 	fac.viewport(390, 844, true)
-	fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/calibration")
+	fac.open(d.url + "/calibration")
 	if n := fac.count(".chart-steadiness .steady-shift"); n == 0 {
 		t.Fatal("the calibration page has no steadiness picture")
 	}

@@ -9,27 +9,21 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestFacilitatorEntryInBrowser: the facilitator takes Priya's judgement
 // from her paper form, sees the same live preview she would, saves it as
 // their own entry, and Priya's page says so.
 func TestFacilitatorEntryInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	links, err := web.SeedDemo(ctx, site.DB)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	qs, _ := site.DB.Questions(ctx, ws[0].ID)
+	links, qs := d.links, d.qs
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
-	fac.open(site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/q/" + strconv.FormatInt(qs[0].ID, 10))
-	fac.do("choose Priya", chromedp.SetValue(chromedp.CSS(`#enter select[name=expert]`), priyaID(t, site, ws[0].ID)))
+	fac.open(d.url + "/q/" + strconv.FormatInt(qs[0].ID, 10))
+	fac.do("choose Priya", chromedp.SetValue(chromedp.CSS(`#enter select[name=expert]`), priyaID(t, site, d.w.ID)))
 	if st := fac.load("open the entry page", chromedp.Click(chromedp.CSS(`#enter button[type=submit]`))); st != http.StatusOK {
 		t.Fatalf("entry page: %d", st)
 	}
@@ -43,7 +37,7 @@ func TestFacilitatorEntryInBrowser(t *testing.T) {
 		t.Fatalf("save: %d", st)
 	}
 	fac.sees("after saving", "Saved for Priya Raman", "facilitator, from a paper form")
-	revs, _ := site.DB.Revisions(ctx, ws[0].ID)
+	revs, _ := site.DB.Revisions(ctx, d.w.ID)
 	last := revs[len(revs)-1]
 	if last.EnteredBy != workshop.ByFacilitator || last.Channel != workshop.ChannelPaperForm || last.QuestionID != qs[0].ID {
 		t.Fatalf("saved %+v", last)

@@ -9,6 +9,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -20,6 +21,7 @@ import (
 	"github.com/chromedp/cdproto/runtime"
 	"github.com/chromedp/chromedp"
 
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/internal/browsertest"
 	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
@@ -47,6 +49,40 @@ type site struct {
 	URL    string    // "http://127.0.0.1:PORT"
 	DB     *store.DB // the same file the server writes, for the test's own reads
 	SignIn string    // the facilitator's one-time sign-in address
+}
+
+// demo is the invented demo workshop (web.SeedDemo) as seeded on a site:
+// the experts' links, the workshop, its questions and experts, and its
+// address (no trailing slash).
+type demo struct {
+	links   []web.DemoLink
+	w       workshop.Workshop
+	qs      []workshop.Question
+	experts []workshop.Expert
+	url     string
+}
+
+// startDemo starts a site and seeds the invented demo workshop on it.
+func startDemo(t *testing.T) (*site, demo) {
+	t.Helper()
+	s := startSite(t)
+	ctx := context.Background()
+	links, err := web.SeedDemo(ctx, s.DB)
+	if err != nil {
+		t.Fatalf("seed demo: %v", err)
+	}
+	wss, err := s.DB.Workshops(ctx)
+	if err != nil || len(wss) != 1 {
+		t.Fatalf("demo workshops %v, %v", wss, err)
+	}
+	d := demo{links: links, w: wss[0], url: s.URL + "/w/" + strconv.FormatInt(wss[0].ID, 10)}
+	if d.qs, err = s.DB.Questions(ctx, d.w.ID); err != nil {
+		t.Fatal(err)
+	}
+	if d.experts, err = s.DB.Experts(ctx, d.w.ID); err != nil {
+		t.Fatal(err)
+	}
+	return s, d
 }
 
 // startSite opens a new database in a temp dir, issues the facilitator

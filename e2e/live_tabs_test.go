@@ -1,15 +1,12 @@
 package e2e
 
 import (
-	"context"
 	"fmt"
 	"net/http"
 	"net/url"
 	"strconv"
 	"strings"
 	"testing"
-
-	"github.com/parley-elicit/parley/web"
 )
 
 // liveTabs is more live pages than a browser keeps connections to one
@@ -21,15 +18,8 @@ const liveTabs = 8
 // still open pages, and every one of them follows a save. Each page held
 // its own event stream, so with six open the seventh never loaded.
 func TestManyLiveTabsInOneBrowser(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	links, err := web.SeedDemo(ctx, site.DB)
-	if err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	qs, _ := site.DB.Questions(ctx, ws[0].ID)
-	wsURL := site.URL + "/w/" + strconv.FormatInt(ws[0].ID, 10) + "/"
+	site, d := startDemo(t)
+	links, qs, wsURL := d.links, d.qs, d.url+"/"
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)

@@ -17,8 +17,6 @@ import (
 	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
-
-	"github.com/parley-elicit/parley/web"
 )
 
 // paper is a sheet the report is printed on, in inches as Chromium's
@@ -46,15 +44,8 @@ func TestReportPrints(t *testing.T) {
 	if err != nil {
 		t.Skipf("SKIPPING THE PRINT TEST: pdftoppm not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
 	}
-	site := startSite(t)
-	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatalf("seed demo: %v", err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	w := ws[0]
-	qs, _ := site.DB.Questions(ctx, w.ID)
-	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
+	site, d := startDemo(t)
+	qs, wsURL := d.qs, d.url
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)

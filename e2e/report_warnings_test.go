@@ -11,7 +11,6 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestReportWarningsReadOnEveryScreen: the report's fit warnings, grouped
@@ -22,13 +21,9 @@ import (
 // the question's section at 390 and 1366 px go to $PARLEY_SCREENSHOTS.
 // The panel's answers are invented.
 func TestReportWarningsReadOnEveryScreen(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatalf("seed demo: %v", err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	w := ws[0]
+	w := d.w
 	for i := 0; i < 5; i++ {
 		e := workshop.Expert{WorkshopID: w.ID, Name: "Invented reviewer " + strconv.Itoa(i+1), Affiliation: "Invented utility"}
 		if err := site.DB.AddExpert(ctx, &e, []byte(fmt.Sprintf("report-warnings-%d", i))); err != nil {

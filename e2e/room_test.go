@@ -1,7 +1,6 @@
 package e2e
 
 import (
-	"context"
 	"fmt"
 	"net/http"
 	"regexp"
@@ -29,17 +28,11 @@ const liveWithin = 2 * time.Second
 // the labels the experts then see in round 2, moves between questions by
 // keyboard, and follows round-2 saves live.
 func TestRoomAndLiveInBrowser(t *testing.T) {
-	site := startSite(t)
-	ctx := context.Background()
-	links, err := web.SeedDemo(ctx, site.DB)
-	if err != nil || len(links) != 4 {
-		t.Fatalf("seed demo: %v, %d links", err, len(links))
+	site, d := startDemo(t)
+	links, qs, experts, wsURL := d.links, d.qs, d.experts, d.url+"/"
+	if len(links) != 4 {
+		t.Fatalf("seed demo: %d links, want 4", len(links))
 	}
-	ws, _ := site.DB.Workshops(ctx)
-	w := ws[0]
-	qs, _ := site.DB.Questions(ctx, w.ID)
-	experts, _ := site.DB.Experts(ctx, w.ID)
-	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10) + "/"
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	fac := br.person("facilitator")

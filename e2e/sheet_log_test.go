@@ -18,15 +18,9 @@ import (
 // fits a phone's screen and a laptop's without scrolling sideways; so
 // does the upload page with the columns of the demo's questions.
 func TestSheetImportInTheLogInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	ws, _ := site.DB.Workshops(ctx)
-	w := ws[0]
-	qs, _ := site.DB.Questions(ctx, w.ID)
-	es, _ := site.DB.Experts(ctx, w.ID)
+	w, qs, es := d.w, d.qs, d.experts
 	text := "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
 	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
 	if err != nil {

@@ -13,7 +13,6 @@ import (
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -24,14 +23,9 @@ import (
 // plans the study and sees the assurance curve; at 390 and 1366 px the
 // page fits and axe-core finds nothing serious.
 func TestStudyInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	wss, _ := site.DB.Workshops(ctx)
-	ws := wss[0]
-	qs, _ := site.DB.Questions(ctx, ws.ID)
+	ws, qs := d.w, d.qs
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	lead := br.person("project lead")
@@ -207,13 +201,9 @@ func axeSourceOrNothing(t *testing.T) (src string) {
 // with the coverage each achieves, and records the exact quantile match as
 // Q1's agreed prior; the page fits at 390 and 1366 px.
 func TestQuickPriorsInBrowser(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	wss, _ := site.DB.Workshops(ctx)
-	ws := wss[0]
+	ws := d.w
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	fac := br.person("facilitator")
@@ -267,14 +257,9 @@ func TestQuickPriorsInBrowser(t *testing.T) {
 // inside their box). Each cell carries its column's label, shown before
 // it; at 1366 px they are tables with their header row.
 func TestStudyTablesOnAPhone(t *testing.T) {
-	site := startSite(t)
+	site, d := startDemo(t)
 	ctx := context.Background()
-	if _, err := web.SeedDemo(ctx, site.DB); err != nil {
-		t.Fatal(err)
-	}
-	wss, _ := site.DB.Workshops(ctx)
-	ws := wss[0]
-	qs, _ := site.DB.Questions(ctx, ws.ID)
+	ws, qs := d.w, d.qs
 	for _, b := range []workshop.StudyData{
 		{QuestionID: qs[0].ID, Successes: 3, Trials: 120, Source: "Field returns, first quarter (invented)", ObservedOn: "2026-03-31"},
 		{QuestionID: qs[0].ID, Successes: 5, Trials: 80, Source: "Field returns, second quarter (invented)", ObservedOn: "2026-06-30"},
