@@ -146,3 +146,31 @@ func TestSteadinessPictureOnAPhone(t *testing.T) {
 	shots := newScreenshots(t)
 	shots.take(fac, "demo-steadiness-390")
 }
+
+// TestInlineFormButtonsSitLevelWithTheirField: at the projector the
+// calibration page's "Score again" and the panel's entry form's button sat
+// level with their field's label, half a line above the box they act on
+// (the buttons' own alignment overrode the row's). Each inline form's
+// button now ends level with its field's input or list.
+func TestInlineFormButtonsSitLevelWithTheirField(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 900, false)
+	for _, page := range []string{d.url + "/calibration", d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)} {
+		fac.open(page)
+		gaps := eval[[]float64](fac, "inline forms' buttons against their fields", `Array.from(document.querySelectorAll("form.form-inline")).map(f => {
+			const b = f.querySelector("button"), box = f.querySelector("input[type=text], select");
+			return b && box ? Math.abs(b.getBoundingClientRect().bottom - box.getBoundingClientRect().bottom) : -1;
+		})`)
+		if len(gaps) == 0 {
+			t.Fatalf("%s has no inline form", page)
+		}
+		for i, g := range gaps {
+			if g < 0 || g > 2 {
+				t.Errorf("%s: inline form %d's button ends %.1f px from its field's box", page, i, g)
+			}
+		}
+	}
+}
