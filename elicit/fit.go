@@ -143,13 +143,17 @@ func FitQuantiles(j Judgement) (Fit, error) {
 }
 
 // weightWords says how much a Beta whose α + β is ess weighs, for
-// WarnNearCertainty: as observed trials for a proportion on [0, 1], and
-// as α + β itself on other bounds, where trials mean nothing.
+// WarnNearCertainty: in observed trials for a proportion on [0, 1]
+// (WorthInTrials), and as α + β itself on other bounds, where trials
+// mean nothing. Above NearCertaintyESS, ESSText writes whole numbers, as
+// this warning always has, so a fit kept by an earlier version says what
+// a fresh one says.
 func weightWords(ess float64, proportion bool) string {
+	limit := strconv.Itoa(NearCertaintyESS)
 	if proportion {
-		return fmt.Sprintf("is worth about %.0f observed trials (α + β above %d)", ess, NearCertaintyESS)
+		return "is " + WorthInTrials(ess) + " (α + β above " + limit + ")"
 	}
-	return fmt.Sprintf("has α + β of about %.0f (above %d)", ess, NearCertaintyESS)
+	return "has α + β of about " + ESSText(ess) + " (above " + limit + ")"
 }
 
 // newFit fills in the report of a fit at the solution d, whose residuals

@@ -1,8 +1,8 @@
 package elicit
 
 import (
-	"fmt"
 	"math"
+	"strconv"
 )
 
 // Planning a study from a Beta prior for a proportion θ: the prior
@@ -372,7 +372,7 @@ func PredictiveCDF(pmf []float64) []float64 {
 	return cdf
 }
 
-// PriorWorth is what a Beta(α, β) prior is worth in imagined trials: its
+// PriorWorth is what a Beta(α, β) prior is worth in observed trials: its
 // effective sample size α + β, the number of binomial trials whose
 // information the prior carries under the conjugate update, as if α
 // successes and β failures had been seen (Morita, Thall & Müller 2008,
@@ -399,37 +399,51 @@ func (w PriorWorth) DataShare(n int) float64 {
 	return float64(n) / (float64(n) + w.Trials)
 }
 
-// WorthOf says in plain words what d weighs: as imagined trials for a
+// WorthOf says in plain words what d weighs: in observed trials for a
 // proportion on [0, 1] (PriorWorth.String), and as α + β itself on other
 // bounds, where trials mean nothing.
 func WorthOf(d ScaledBeta) string {
 	if d.OnUnit() {
 		return Worth(d.Beta).String()
 	}
-	return fmt.Sprintf("α + β = %.4g: how strongly the prior holds its shape (not a number of trials on these bounds)", d.Alpha+d.Beta.Beta)
+	return "α + β = " + ESSText(d.Alpha+d.Beta.Beta) + ": how strongly the prior holds its shape (not a number of trials on these bounds)"
 }
 
-// String says in plain words what the prior is worth.
+// String says in plain words what the prior is worth: WorthInTrials with
+// its split into successes and failures, "worth about 40 observed trials
+// (2 successes and 38 failures)".
 func (w PriorWorth) String() string {
-	return fmt.Sprintf("worth about %s (%s and %s)",
-		counted(w.Trials, "imagined trial", "imagined trials"), counted(w.Successes, "success", "successes"), counted(w.Failures, "failure", "failures"))
+	return WorthInTrials(w.Trials) + " (" + counted(w.Successes, "success", "successes") + " and " + counted(w.Failures, "failure", "failures") + ")"
 }
 
-// counted is roughly(v) with its noun, singular when it reads as 1.
+// WorthInTrials is the one phrase for what a prior on a proportion
+// whose effective sample size α + β is ess is worth, wherever Parley
+// says it (the pages, the commands, a near-certainty warning): "worth
+// about 58.51 observed trials", the number of binomial trials whose
+// information the prior carries (PriorWorth), written by ESSText.
+func WorthInTrials(ess float64) string {
+	return "worth about " + counted(ess, "observed trial", "observed trials")
+}
+
+// ESSText writes an effective sample size α + β, or a count of
+// successes or failures, as Parley writes it everywhere: four
+// significant figures, as the pages write α and β, so that α + β reads
+// as their sum (Beta(3.456, 55.05) is worth about 58.51 trials); whole
+// from 1000 up, so that a count is not rounded to tens (15366, not
+// 15370); without an exponent below a billion.
+func ESSText(v float64) string {
+	if v >= 1000 && v < 1e9 {
+		return strconv.FormatFloat(v, 'f', 0, 64)
+	}
+	return strconv.FormatFloat(v, 'g', 4, 64)
+}
+
+// counted is ESSText(v) with its noun, singular when it reads as 1.
 func counted(v float64, one, many string) string {
-	if s := roughly(v); s != "1" {
+	if s := ESSText(v); s != "1" {
 		return s + " " + many
 	}
 	return "1 " + one
-}
-
-// roughly prints a count with three significant figures, without an
-// exponent below a billion.
-func roughly(v float64) string {
-	if v >= 100 && v < 1e9 {
-		return fmt.Sprintf("%.0f", v)
-	}
-	return fmt.Sprintf("%.3g", v)
 }
 
 // PredictiveMoments are the mean and standard deviation of the number of

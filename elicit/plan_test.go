@@ -453,7 +453,7 @@ func TestKeptOutcomes(t *testing.T) {
 	}
 }
 
-// TestWorth: Beta(2, 38) is worth 40 imagined trials. With 160 planned
+// TestWorth: Beta(2, 38) is worth 40 observed trials. With 160 planned
 // trials the data's share of the posterior mean is 160/200 = 0.8: after
 // 12 successes the posterior Beta(14, 186) has mean 14/200 = 0.07 =
 // 0.2·(2/40) + 0.8·(12/160) = 0.01 + 0.06.
@@ -467,7 +467,7 @@ func TestWorth(t *testing.T) {
 	if share != 0.8 || math.Abs(post.Mean()-((1-share)*0.05+share*12.0/160)) > 1e-15 {
 		t.Errorf("share %v, posterior mean %v", share, post.Mean())
 	}
-	if s := w.String(); !strings.Contains(s, "40 imagined trials") || !strings.Contains(s, "2 successes and 38 failures") {
+	if s := w.String(); !strings.Contains(s, "worth about 40 observed trials") || !strings.Contains(s, "2 successes and 38 failures") {
 		t.Errorf("worth reads %q", s)
 	}
 }

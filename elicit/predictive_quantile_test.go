@@ -39,13 +39,50 @@ func TestPredictiveQuantileAtTiesAgainstSciPy(t *testing.T) {
 	}
 }
 
-// The uniform prior, the commonest quick prior, is worth 2 imagined
+// The uniform prior, the commonest quick prior, is worth 2 observed
 // trials: 1 success and 1 failure, in the singular.
 func TestWorthWordsSingular(t *testing.T) {
-	if got, want := Worth(Beta{1, 1}).String(), "worth about 2 imagined trials (1 success and 1 failure)"; got != want {
+	if got, want := Worth(Beta{1, 1}).String(), "worth about 2 observed trials (1 success and 1 failure)"; got != want {
 		t.Errorf("%q, want %q", got, want)
 	}
-	if got, want := Worth(Beta{0.5, 0.5}).String(), "worth about 1 imagined trial (0.5 successes and 0.5 failures)"; got != want {
+	if got, want := Worth(Beta{0.5, 0.5}).String(), "worth about 1 observed trial (0.5 successes and 0.5 failures)"; got != want {
 		t.Errorf("%q, want %q", got, want)
+	}
+}
+
+// A prior's worth is said in one phrase with one rule for its figures:
+// four significant figures, as the pages write α and β, so that
+// Beta(3.456, 55.05) reads as worth their sum; whole from 1000 up, so
+// that a near-certainty warning's count is not rounded to tens.
+// Common practice, no source: the figures are Parley's own choice.
+func TestWorthInTrialsFigures(t *testing.T) {
+	for _, c := range []struct {
+		ess  float64
+		want string
+	}{
+		{3.456 + 55.05, "worth about 58.51 observed trials"},
+		{0.205072, "worth about 0.2051 observed trials"},
+		{1, "worth about 1 observed trial"},
+		{240, "worth about 240 observed trials"},
+		{999.94, "worth about 999.9 observed trials"},
+		{15366.4, "worth about 15366 observed trials"},
+		{1e6, "worth about 1000000 observed trials"},
+	} {
+		if got := WorthInTrials(c.ess); got != c.want {
+			t.Errorf("WorthInTrials(%v) = %q, want %q", c.ess, got, c.want)
+		}
+	}
+	// The near-certainty warning on a proportion says it in these words.
+	f, err := FitQuantiles(Judgement{Probs: []float64{0.05, 0.5, 0.95}, Values: []float64{0.099, 0.1, 0.101}, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "is " + WorthInTrials(f.Dist.Alpha+f.Dist.Beta.Beta) + " (α + β above 1000)"
+	found := false
+	for _, w := range f.Warnings {
+		found = found || (w.Code == WarnNearCertainty && strings.Contains(w.Message, want))
+	}
+	if !found {
+		t.Errorf("no near-certainty warning says %q: %v", want, f.Warnings)
 	}
 }

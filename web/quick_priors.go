@@ -85,7 +85,7 @@ type quickResult struct {
 }
 
 // proportion says the construction is on [0, 1], where α + β counts
-// imagined binomial trials; on other bounds no trials give it meaning.
+// binomial trials; on other bounds no trials give it meaning.
 func (r quickResult) proportion() bool {
 	return r.Construction.Dist.OnUnit()
 }
@@ -96,7 +96,7 @@ func (r quickResult) weightWords() string {
 	if r.proportion() {
 		return worthWords(r.Worth)
 	}
-	return "α + β = " + fv(r.Worth.Trials) + ". " + alphaBetaHint
+	return "α + β = " + elicit.ESSText(r.Worth.Trials) + ". " + alphaBetaHint
 }
 
 // alphaBetaHint says what α + β tells on a scale other than [0, 1].

@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"net/http"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -11,8 +12,9 @@ import (
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-// A quick prior's weight is told in imagined trials only for a proportion
-// on [0, 1]; on another scale (an invented repair time in days, 0 to 30)
+// A quick prior's weight is told in observed trials only for a proportion
+// on [0, 1], in elicit's one phrase (elicit.WorthInTrials) with its
+// figures; on another scale (an invented repair time in days, 0 to 30)
 // the page gives α + β itself and says it is not a number of trials.
 func TestQuickPriorWeightOnEachScale(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
@@ -31,13 +33,13 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 	}{
 		{"proportion, interval", qs[0], "&construction=interval&c_low=0.03&c_high=0.12&c_coverage=0.9",
 			elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1},
-			[]string{"imagined trials</td>"}, []string{"<th scope=\"row\">α + β</th>", alphaBetaHint}},
+			nil, []string{"<th scope=\"row\">α + β</th>", alphaBetaHint, "imagined trials"}},
 		{"proportion, mean and SD", qs[0], "&construction=mean_sd&c_mean=0.1&c_sd=0.05",
 			elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 0.1, SD: 0.05, Upper: 1},
-			[]string{"as much information as "}, []string{"α + β ="}},
+			nil, []string{"α + β =", "imagined trials", "as much information as"}},
 		{"days, interval", days, "&construction=interval&c_low=3&c_high=12&c_coverage=0.9",
 			elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 3, High: 12, Coverage: 0.9, Upper: 30},
-			[]string{"<th scope=\"row\">α + β</th>", alphaBetaHint}, []string{"imagined trials", "observed trial", "Worth"}},
+			[]string{"<th scope=\"row\">α + β</th>", alphaBetaHint}, []string{"imagined trials", "observed trial", "Effective sample size"}},
 		{"days, mean and SD", days, "&construction=mean_sd&c_mean=8&c_sd=3",
 			elicit.ConstructionInput{Method: elicit.MethodMeanSD, Mean: 8, SD: 3, Upper: 30},
 			[]string{"It is not a number of trials here"}, []string{"imagined trials", "observed trial"}},
@@ -52,15 +54,17 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		sum := fv(con.Dist.Alpha + con.Dist.Beta.Beta)
+		sum := elicit.ESSText(con.Dist.Alpha + con.Dist.Beta.Beta)
 		if c.q.ID == days.ID {
 			if c.in.Method == elicit.MethodMeanSD {
 				c.want = append(c.want, "α + β = "+sum+". ")
 			} else {
 				c.want = append(c.want, `<td class="num">`+sum+"</td>")
 			}
+		} else if c.in.Method == elicit.MethodMeanSD {
+			c.want = append(c.want, "This prior is "+elicit.Worth(con.Dist.Beta).String()+".")
 		} else {
-			c.want = append(c.want, sum)
+			c.want = append(c.want, `<td class="num">`+elicit.WorthInTrials(con.Dist.Alpha+con.Dist.Beta.Beta)+"</td>")
 		}
 		for _, w := range c.want {
 			if !strings.Contains(body, htmlEscape(w)) && !strings.Contains(body, w) {
@@ -74,6 +78,39 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 			if strings.Contains(results, htmlEscape(w)) || strings.Contains(results, w) {
 				t.Errorf("%s: page says %q", c.name, w)
 			}
+		}
+	}
+}
+
+// A prior's worth in trials was written three ways: "as much information
+// as 58.51 observed trials" on the study page, "58.51 imagined trials" on
+// quick priors, "worth about N observed trials" in the warnings. Each
+// page now says it in elicit's one phrase, with α and β's four figures,
+// and the trial counts it names beside it are the Beta's own α and β.
+func TestPriorWorthReadsOneWayOnEveryPage(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeSample(t, h, qs[0].ID, 3.456, 58.506, "invented")
+	want := "worth about 58.51 observed trials"
+	phrase := regexp.MustCompile(`[a-z ]*(?:about|as) [0-9.]+ (?:\w+ )?trials?`)
+	for _, page := range []string{
+		studyPath(ws.ID, qs[0].ID) + "?trials=100",
+		quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(qs[0].ID, 10) + "&construction=equivalent_sample&c_successes=3.456&c_trials=58.506",
+	} {
+		_, body := h.get(page)
+		if i := strings.Index(body, `id="results"`); i >= 0 {
+			body = body[i:] // past the quick priors' form, which explains imagined trials
+		}
+		found := phrase.FindAllString(body, -1)
+		if len(found) == 0 {
+			t.Errorf("%s: no prior's worth in trials", page)
+		}
+		for _, f := range found {
+			if !strings.HasSuffix(f, want) {
+				t.Errorf("%s: the worth reads %q, not %q", page, f, want)
+			}
+		}
+		if !strings.Contains(body, want+" (3.456 successes and 55.05 failures)") && !strings.Contains(body, want+"</td>") {
+			t.Errorf("%s: the worth is not split as Beta(3.456, 55.05)", page)
 		}
 	}
 }

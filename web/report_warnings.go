@@ -106,7 +106,7 @@ func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning) {
 			detail = "at the upper bound, β\u00a0=\u00a0" + elicit.ShapeText(b)
 		}
 	case elicit.WarnNearCertainty:
-		detail = "α\u00a0+\u00a0β\u00a0=\u00a0" + strconv.FormatFloat(a+b, 'f', 0, 64)
+		detail = "α\u00a0+\u00a0β\u00a0=\u00a0" + elicit.ESSText(a+b)
 	}
 	g.Items = append(g.Items, warningItem{Expert: expert, Detail: detail})
 }

@@ -291,7 +291,7 @@ func TestStudyPlanPage(t *testing.T) {
 		t.Fatalf("plan: %d", res.StatusCode)
 	}
 	for _, want := range []string{"54%", "130 trials", "at most 4 successes in 100 trials", `id="assurance"`, "planned: 100",
-		"This prior carries about as much information as 40 observed trials", "For the planned study"} {
+		"This prior is worth about 40 observed trials (2 successes and 38 failures).", "For the planned study"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("plan page lacks %q", want)
 		}
@@ -661,7 +661,7 @@ func TestPlanUnderThePosterior(t *testing.T) {
 	for _, want := range []string{
 		"<h3>Planned under: Posterior after the recorded data, Beta(10, 230)</h3>",
 		"A follow-up to the recorded 8 successes in 200 trials",
-		"carries about as much information as 240 observed trials",
+		"This prior is worth about 240 observed trials (10 successes and 230 failures).",
 		"For the recorded data together with a typical outcome of the planned 100 trials: " + strconv.Itoa(typical) + " success",
 		"Each prior learns from both: " + successesIn(8+typical, 300) + " in all.",
 		// A follow-up's outcomes are predicted before its own data, not

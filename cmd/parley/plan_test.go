@@ -182,7 +182,7 @@ func TestPlanText(t *testing.T) {
 	}
 	for _, want := range []string{
 		"prior Beta(2, 38): mean 0.05",
-		"worth about 40 imagined trials (2 successes and 38 failures)",
+		"worth about 40 observed trials (2 successes and 38 failures)",
 		"a study of 20 trials gets 33.3% of the weight in the posterior mean",
 		"successes  probability",
 		"assurance that P(θ < 0.1 | data) ≥ 0.9 after 20 trials",

@@ -101,7 +101,7 @@ func TestPriorText(t *testing.T) {
 		"holds 50% of this prior (asked 50%): 25% below it, 25% above it",
 		"the interval_moments method gives no prior for this interval",
 		"U-shaped",
-		"worth about 0.205 imagined trials",
+		"worth about 0.2051 observed trials",
 		"Caution:",
 	} {
 		if !strings.Contains(out, want) {
@@ -226,16 +226,16 @@ func TestPriorPlanBinary(t *testing.T) {
 	}
 }
 
-// The text output gives a prior's weight as imagined trials only for a
+// The text output gives a prior's weight in observed trials only for a
 // proportion on [0, 1]; on other bounds it gives α + β, since trials mean
 // nothing there.
 func TestPriorWorthWordsFollowTheBounds(t *testing.T) {
 	code, out, errOut := runCLI(t, "", "prior", "--mean", "0.2", "--sd", "0.1")
-	if code != 0 || !strings.Contains(out, "imagined trials") {
+	if code != 0 || !strings.Contains(out, "worth about 15 observed trials (3 successes and 12 failures)") {
 		t.Errorf("proportion: exit %d %s\n%s", code, errOut, out)
 	}
 	code, out, errOut = runCLI(t, "", "prior", "--mean", "12", "--sd", "4", "--lower", "0", "--upper", "30")
-	if code != 0 || strings.Contains(out, "imagined trials") || !strings.Contains(out, "α + β = ") {
+	if code != 0 || strings.Contains(out, "observed trials") || !strings.Contains(out, "α + β = ") {
 		t.Errorf("days: exit %d %s\n%s", code, errOut, out)
 	}
 }
