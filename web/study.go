@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"time"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -79,13 +81,29 @@ type studyView struct {
 // priorChoice is one prior the study can be planned under.
 type priorChoice struct {
 	Value, Label string
-	Prior        elicit.Beta
+	// InSentence is the label as it reads inside a sentence
+	// (priorInSentence): "the agreed prior", "Priya Shah’s fit".
+	InSentence string
+	Prior      elicit.Beta
 	// Caveat says that a pool's single Beta stands in for the pool only
 	// roughly (workshop.StandInCaveat); "" otherwise.
 	Caveat string
 	// AfterData marks the posterior after the recorded data: a follow-up
 	// study planned under what the data have already taught.
 	AfterData bool
+}
+
+// priorInSentence is a prior's label as it reads inside a sentence. A
+// label of Parley's own ("Agreed prior", "Equal-weight pool (suggested)")
+// is a name standing alone in a list or a heading; mid-sentence it takes
+// "the" and a small first letter, "the agreed prior". An expert's label
+// is their name, which keeps its capitals: "Priya Shah’s fit".
+func priorInSentence(label string, expert bool) string {
+	if expert {
+		return label + "’s fit"
+	}
+	r, size := utf8.DecodeRuneInString(label)
+	return "the " + string(unicode.ToLower(r)) + label[size:]
 }
 
 // planView is the planning section: its form and what it computed.
@@ -202,8 +220,13 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	priors, skipped, caveats := workshop.ComparedPriors(workshop.PanelInput{Question: q, Experts: d.Experts, Revisions: st.History, Weights: d.Weights, Fit: d.fit},
 		performanceWeights(d), v.Agreed)
 	v.Skipped = skipped
+	experts := map[string]bool{}
+	for _, e := range d.Experts {
+		experts[e.Name] = true
+	}
 	for i, p := range priors {
-		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, Prior: p.Prior, Caveat: caveats[i]})
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, InSentence: priorInSentence(p.Name, experts[p.Name]),
+			Prior: p.Prior, Caveat: caveats[i]})
 		if caveats[i] != "" {
 			v.Caveats = append(v.Caveats, caveats[i])
 		}
@@ -213,7 +236,8 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	}
 	v.Plan.Default = v.Plan.Choices[len(v.Plan.Choices)-1].Value
 	if v.Update != nil {
-		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: "posterior", Label: "Posterior after the recorded data",
+		label := "Posterior after the recorded data"
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: "posterior", Label: label, InSentence: priorInSentence(label, false),
 			Prior: v.Update.Posterior, AfterData: true})
 	}
 	v.Plan = planStudy(ctx, v.Plan)

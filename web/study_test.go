@@ -732,14 +732,37 @@ func TestStudyAssurancePairNamesItsPartner(t *testing.T) {
 
 // TestStudyTypicalOutcomeNamesItsPriorInASentence: the sentence read
 // "the median of the predictive under Agreed prior (the prior the study is
-// planned under)", a label dropped into the middle of a sentence; the
-// label now stands in brackets after the words.
+// planned under)", a label dropped into the middle of a sentence, and then
+// "… planned under (Agreed prior).", the label's capital mid-sentence. A
+// label of Parley's own now reads "the agreed prior" there, and an
+// expert's fit keeps the expert's name as written.
 func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	agreeSample(t, h, qs[0].ID, 2, 40, "invented")
-	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=100")
-	if !strings.Contains(body, "the median of the predictive under the prior the study is planned under (Agreed prior).") || strings.Contains(body, "under Agreed prior (") {
-		t.Error("the typical outcome's sentence does not name its prior in brackets")
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, body := h.get(sp + "?trials=100")
+	if !strings.Contains(body, "the median of the predictive under the agreed prior, the prior the study is planned under.") ||
+		strings.Contains(body, "(Agreed prior)") || strings.Contains(body, "under Agreed prior") {
+		t.Error("the typical outcome's sentence does not name the agreed prior in lower case")
+	}
+	// The first choice is the first expert's fit, labelled with their name.
+	opt := regexp.MustCompile(`<option value="0"[^>]*>([^<:]+):`).FindStringSubmatch(body)
+	if opt == nil {
+		t.Fatal("no first choice of prior")
+	}
+	name := html.UnescapeString(opt[1])
+	_, body = h.get(sp + "?prior=0&trials=100")
+	if want := "the median of the predictive under " + name + "’s fit, the prior the study is planned under."; !strings.Contains(html.UnescapeString(body), want) {
+		t.Errorf("the typical outcome's sentence under an expert's fit lacks %q", want)
+	}
+	for _, c := range []struct{ label, want string }{
+		{"Equal-weight pool", "the equal-weight pool"},
+		{"Performance-weight pool (suggested)", "the performance-weight pool (suggested)"},
+		{"Posterior after the recorded data", "the posterior after the recorded data"},
+	} {
+		if got := priorInSentence(c.label, false); got != c.want {
+			t.Errorf("priorInSentence(%q) = %q, want %q", c.label, got, c.want)
+		}
 	}
 }
 
