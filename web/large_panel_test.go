@@ -6,6 +6,7 @@ import (
 	"github.com/parley-elicit/parley/web/chart/charttest"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -156,5 +157,33 @@ func TestSmallPanelOverlaysCurves(t *testing.T) {
 	}
 	if c := strings.Count(page, `name="withhold_reason"`); c != overlayLimit {
 		t.Errorf("%d withhold forms on a small panel's page, want %d", c, overlayLimit)
+	}
+}
+
+// TestHistoryPageHasOneHeading: the whole-history page was headed
+// "Revision history: Q1 …" and, right under it, "Revision history of this
+// question" again. The page has one heading naming the history; the
+// question's own page keeps its section's heading.
+func TestHistoryPageHasOneHeading(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	heading := regexp.MustCompile(`(?s)<h[1-6][^>]*>(.*?)</h[1-6]>`)
+	for _, c := range []struct {
+		path string
+		want int
+	}{{qp + "/history", 1}, {qp, 1}} {
+		_, body := h.get(c.path)
+		n := 0
+		for _, m := range heading.FindAllStringSubmatch(body, -1) {
+			if strings.Contains(strings.ToLower(m[1]), "history") {
+				n++
+			}
+		}
+		if n != c.want {
+			t.Errorf("%s: %d headings name the history, want %d", c.path, n, c.want)
+		}
+	}
+	if _, body := h.get(qp + "/history"); !strings.Contains(body, "<h1>Revision history: Q") || !strings.Contains(body, `<table class="table table-compact table-revisions">`) {
+		t.Error("the history page lacks its heading or its table")
 	}
 }
