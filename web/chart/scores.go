@@ -75,6 +75,9 @@ type mapPoint struct {
 	LeadX2, LeadY2       string
 	Calibration, Weight  string // data values, for tests and assistive tools
 	Information, Clipped string
+	// Nudge is how far the disc is drawn below (or, negative, above) its
+	// place, in SVG units, to keep it apart from another (discsApart).
+	Nudge string
 }
 
 type mapCut struct {
@@ -243,10 +246,6 @@ func newScoresModel(v ScoresView) scoresModel {
 	case cx+half > mapLeft+mapWidth+mapRight-4:
 		m.Cut.LabelX, m.Cut.Anchor = coord(cx), "end"
 	}
-	const shadeText = "weight 0"
-	if m.Cut.Shade && cx-f.Left > float64(len(shadeText))*mapCharW+12 {
-		m.Cut.ShadeLabel, m.Cut.ShadeLabelX, m.Cut.ShadeLabelY = shadeText, coord(f.Left+8), coord(f.bottom()-10)
-	}
 
 	// Discs, largest first so small ones stay visible on top.
 	order := make([]int, len(rows))
@@ -264,16 +263,9 @@ func newScoresModel(v ScoresView) scoresModel {
 		cutBox.x0, cutBox.x1 = cx-cutW, cx
 	}
 	placed := []labelBox{cutBox}
-	if m.Cut.ShadeLabel != "" {
-		placed = append(placed, labelBox{x0: f.Left + 8, x1: f.Left + 8 + float64(len(shadeText))*mapCharW, y0: f.bottom() - 10 - mapLineH + 4, y1: f.bottom()})
-	}
 	// Every disc, and the pool's diamond, is in place before any label:
 	// a label kept off the other labels but not off the discs, and the
 	// demo's "weighted pool" was written over Priya Raman's disc.
-	type disc struct {
-		x, y, rad float64
-		clipped   bool
-	}
 	discs := make([]disc, len(rows))
 	for i, r := range rows {
 		x, clipped := xOf(r.Calibration)
@@ -282,7 +274,33 @@ func newScoresModel(v ScoresView) scoresModel {
 			rad = math.Max(mapMinR+1, mapMaxR*math.Sqrt(r.Weight))
 		}
 		discs[i] = disc{x: x, y: f.py(r.Information), rad: rad, clipped: clipped}
-		placed = append(placed, labelBox{x0: x - rad, x1: x + rad, y0: f.py(r.Information) - rad, y1: f.py(r.Information) + rad})
+	}
+	// Experts whose scores nearly agree would draw one disc over another:
+	// such discs are drawn apart, up or down only (spreadApart), never
+	// across, since the calibration score decides which side of the
+	// cut-off a disc is on. The caption states the largest move; its
+	// scores, and the table's, are exact.
+	nudge := spreadApart(discs, order, f)
+	// The shaded region's "weight 0" goes in its lower left corner, or its
+	// upper left where a disc lies under the lower, or nowhere (the key
+	// names the shading too).
+	const shadeText = "weight 0"
+	if m.Cut.Shade && cx-f.Left > float64(len(shadeText))*mapCharW+12 {
+		for _, baseline := range []float64{f.bottom() - 10, f.Top + mapLineH} {
+			box := labelBox{x0: f.Left + 8, x1: f.Left + 8 + float64(len(shadeText))*mapCharW, y0: baseline - mapLineH + 4, y1: baseline + 10}
+			clear := true
+			for _, d := range discs {
+				clear = clear && !box.overlaps(labelBox{x0: d.x - d.rad, x1: d.x + d.rad, y0: d.y - d.rad, y1: d.y + d.rad})
+			}
+			if clear {
+				m.Cut.ShadeLabel, m.Cut.ShadeLabelX, m.Cut.ShadeLabelY = shadeText, coord(f.Left+8), coord(baseline)
+				placed = append(placed, box)
+				break
+			}
+		}
+	}
+	for _, d := range discs {
+		placed = append(placed, labelBox{x0: d.x - d.rad, x1: d.x + d.rad, y0: d.y - d.rad, y1: d.y + d.rad})
 	}
 	if pooled != nil {
 		x, _ := xOf(pooled.Calibration)
@@ -314,7 +332,7 @@ func newScoresModel(v ScoresView) scoresModel {
 		}
 		b := placeLabel(label, x, y, rad, f, placed)
 		placed = append(placed, b)
-		p := mapPoint{X: coord(x), Y: coord(y), R: coord(rad), Weighted: r.Weight > 0, Label: label,
+		p := mapPoint{X: coord(x), Y: coord(y), R: coord(rad), Weighted: r.Weight > 0, Label: label, Nudge: coord(y - f.py(r.Information)),
 			LabelX: coord(b.textX), LabelY: coord(b.baseline), Anchor: b.anchor,
 			Calibration: fmt.Sprint(r.Calibration), Information: fmt.Sprint(r.Information), Weight: fmt.Sprint(r.Weight)}
 		if clipped {
@@ -341,6 +359,10 @@ func newScoresModel(v ScoresView) scoresModel {
 	m.Desc = "Each disc is an expert: further right means better calibrated (the true values fell where their quantiles said they would), " +
 		"higher means more informative (narrower ranges than the panel's). " + cut + "; the others share the weight in proportion to " +
 		"calibration × information, shown by the disc's area. " + strings.Join(words, "; ") + "."
+	if nudge > 0.005 {
+		m.Desc += " Discs of experts whose scores nearly agree are drawn apart, up or down only, by at most " +
+			roundedUp(nudge*(f.Y1-f.Y0)/f.Height) + " in information score, so that each shows; the scores written here are exact."
+	}
 	if pooled != nil {
 		poolText := formatScore(pooled.Calibration)
 		if elicit.BelowDouble(pooled.Calibration, pooled.LogCalibration) {
@@ -350,6 +372,85 @@ func newScoresModel(v ScoresView) scoresModel {
 			poolText, formatSig(pooled.Information, scoreFigures))
 	}
 	return m
+}
+
+// disc is an expert's disc on the weight map, in SVG units.
+type disc struct {
+	x, y, rad float64
+	clipped   bool
+}
+
+// discsApart is how far apart two discs' centres must be for both to
+// show: each centre outside the other disc, stroke and all, by a margin
+// of half the smaller radius, so that two discs read as two and not as
+// one disc with a rim.
+func discsApart(a, b disc) float64 {
+	return math.Max(a.rad, b.rad) + math.Min(a.rad, b.rad)/2 + 2
+}
+
+// spreadApart moves discs that are closer than discsApart up and down,
+// the smaller of a pair the more, until every pair is apart, keeping each
+// centre inside the plot and the discs' order up the plot: a disc of the
+// higher information score stays higher (on a tie, the one earlier in
+// order, the larger). It returns the largest move, in SVG units.
+func spreadApart(ds []disc, order []int, f frame) float64 {
+	orig := make([]float64, len(ds))
+	rank := make([]int, len(ds))
+	for i, d := range ds {
+		orig[i] = d.y
+	}
+	for k, i := range order {
+		rank[i] = k
+	}
+	// above says disc i belongs above disc j (a smaller y on the screen).
+	above := func(i, j int) bool { return orig[i] < orig[j] || (orig[i] == orig[j] && rank[i] < rank[j]) }
+	clamp := func(y float64) float64 { return math.Min(math.Max(y, f.Top), f.bottom()) }
+	for range 400 {
+		moved := false
+		for i := range ds {
+			for j := range i {
+				need := discsApart(ds[i], ds[j])
+				dx := math.Abs(ds[i].x - ds[j].x)
+				if dx >= need {
+					continue
+				}
+				up, down := i, j
+				if above(j, i) {
+					up, down = j, i
+				}
+				gap := math.Sqrt(need*need - dx*dx)
+				short := gap - (ds[down].y - ds[up].y)
+				if short <= 1e-6 {
+					continue
+				}
+				// The smaller disc moves the more (in inverse proportion
+				// to area; two alike move half each), so an expert with
+				// most of the weight stays nearly in place; each takes
+				// the other's share where the other is held by the
+				// plot's edge.
+				au, ad := ds[up].rad*ds[up].rad, ds[down].rad*ds[down].rad
+				ds[up].y = clamp(ds[up].y - short*ad/(au+ad))
+				ds[down].y = clamp(ds[up].y + gap)
+				ds[up].y = clamp(ds[down].y - gap)
+				moved = true
+			}
+		}
+		if !moved {
+			break
+		}
+	}
+	var most float64
+	for i, d := range ds {
+		most = math.Max(most, math.Abs(d.y-orig[i]))
+	}
+	return most
+}
+
+// roundedUp writes v > 0 to two significant figures, rounded up, so that
+// "at most" before it holds.
+func roundedUp(v float64) string {
+	unit := math.Pow(10, math.Floor(math.Log10(v))-1)
+	return formatSig(math.Ceil(v/unit-1e-9)*unit, 2)
 }
 
 // labelBox is a placed label: its box for overlap tests, where its text

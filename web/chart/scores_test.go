@@ -2,6 +2,7 @@ package chart
 
 import (
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -235,5 +236,105 @@ func TestWeightMapLabelsKeepOffTheDiscs(t *testing.T) {
 				t.Errorf("a label at [%.0f, %.0f] × [%.0f, %.0f] lies over %s's disc", l.x0, l.x1, l.y0, l.y1, v.Rows[i].Expert)
 			}
 		}
+	}
+}
+
+// TestWeightMapKeepsNearlyAgreeingDiscsApart: two experts whose scores
+// nearly agree drew one disc over the other; both labels were reached by
+// leader lines, but one disc was hidden. Each disc's centre now lies
+// outside every other disc as drawn (stroke and all), the discs moved up
+// or down only (across, each stays at its calibration score, on its own
+// side of the cut-off), in the order of their information scores, by no
+// more than the caption states, and the caption's scores stay exact. The
+// rows are invented.
+func TestWeightMapKeepsNearlyAgreeingDiscsApart(t *testing.T) {
+	for _, c := range []struct {
+		name string
+		rows []ScoreRow
+	}{
+		{"two weighted", []ScoreRow{
+			{Expert: "Invented A", Calibration: 0.5, Information: 1.2, Weight: 0.5},
+			{Expert: "Invented B", Calibration: 0.5001, Information: 1.201, Weight: 0.49},
+			{Expert: "Invented C", Calibration: 0.05, Information: 0.4, Weight: 0},
+		}},
+		{"two left out, on the axis", []ScoreRow{
+			{Expert: "Invented A", Calibration: 0.9, Information: 1.5, Weight: 1},
+			{Expert: "Invented B", Calibration: 0.01, Information: 0, Weight: 0},
+			{Expert: "Invented C", Calibration: 0.0101, Information: 0.001, Weight: 0},
+		}},
+		{"four alike", []ScoreRow{
+			{Expert: "Invented A", Calibration: 0.8, Information: 0.2, Weight: 0.25},
+			{Expert: "Invented B", Calibration: 0.8, Information: 0.2, Weight: 0.25},
+			{Expert: "Invented C", Calibration: 0.8, Information: 0.2, Weight: 0.25},
+			{Expert: "Invented D", Calibration: 0.8, Information: 0.2, Weight: 0.25},
+			{Expert: "Invented E", Calibration: 0.02, Information: 1.1, Weight: 0},
+		}},
+		{"a small disc on a large one", []ScoreRow{
+			{Expert: "Invented A", Calibration: 0.7, Information: 0.8, Weight: 0.9},
+			{Expert: "Invented B", Calibration: 0.69, Information: 0.79, Weight: 0.1},
+		}},
+	} {
+		html := render(t, Scores(ScoresView{Alpha: 0.1, Rows: c.rows}))
+		checkFinite(t, html)
+		ns := parse(t, html)
+		x := axisMap(t, find(ns, "line", "grid-x"), "x1", func(s string) float64 { return math.Log10(parseNumber(s)) })
+		y := axisMap(t, find(ns, "line", "grid-y"), "y1", parseNumber)
+		discs := find(ns, "circle", "map-expert")
+		if len(discs) != len(c.rows) {
+			t.Fatalf("%s: %d discs, want %d", c.name, len(discs), len(c.rows))
+		}
+		// The largest move, in information score, that the caption states.
+		m := regexp.MustCompile(`drawn apart, up or down only, by at most ([0-9.e-]+) in information score`).FindStringSubmatch(html)
+		stated := 0.0
+		if m == nil {
+			t.Errorf("%s: the caption does not say the discs were moved apart", c.name)
+		} else {
+			stated = parseNumber(m[1])
+		}
+		pxPerInfo := math.Abs(y(0) - y(1))
+		for i, a := range discs {
+			cal, info := parseNumber(a.Attr["data-calibration"]), parseNumber(a.Attr["data-information"])
+			if got, want := a.num(t, "cx"), x(math.Log10(cal)); math.Abs(got-want) > 0.02 {
+				t.Errorf("%s: disc %d moved across: cx %v, want %v", c.name, i, got, want)
+			}
+			if moved := math.Abs(a.num(t, "cy") - y(info)); moved > stated*pxPerInfo+0.02 {
+				t.Errorf("%s: disc %d moved %v in information score, the caption says at most %v", c.name, i, moved/pxPerInfo, stated)
+			}
+			for j, b := range discs[:i] {
+				if bi := parseNumber(b.Attr["data-information"]); (bi > info && b.num(t, "cy") > a.num(t, "cy")) || (bi < info && b.num(t, "cy") < a.num(t, "cy")) {
+					t.Errorf("%s: discs %d and %d are drawn in the other order up the plot from their information scores", c.name, j, i)
+				}
+				d := math.Hypot(a.num(t, "cx")-b.num(t, "cx"), a.num(t, "cy")-b.num(t, "cy"))
+				drawn := func(n node) float64 { return n.num(t, "r") + n.num(t, "stroke-width")/2 }
+				if d <= drawn(a) || d <= drawn(b) {
+					t.Errorf("%s: disc %d's centre and disc %d's are %.1f apart, inside a disc of radius %.1f or %.1f as drawn",
+						c.name, j, i, d, drawn(b), drawn(a))
+				}
+			}
+		}
+		// Nor does the shaded region's "weight 0" lie over a disc moved up.
+		for _, n := range find(ns, "text", "map-note") {
+			note := labelBox{x0: n.num(t, "x"), x1: n.num(t, "x") + float64(len([]rune(n.Text)))*mapCharW, y0: n.num(t, "y") - 14, y1: n.num(t, "y") + 4}
+			for i, d := range discs {
+				x, y, r := d.num(t, "cx"), d.num(t, "cy"), d.num(t, "r")
+				if note.overlaps(labelBox{x0: x - r, x1: x + r, y0: y - r, y1: y + r}) {
+					t.Errorf("%s: %q lies over disc %d", c.name, n.Text, i)
+				}
+			}
+		}
+		for _, r := range c.rows {
+			if want := r.Expert + ": calibration " + formatScore(r.Calibration) + ", information " + formatSig(r.Information, scoreFigures); !strings.Contains(html, want) {
+				t.Errorf("%s: the caption lacks %q", c.name, want)
+			}
+		}
+	}
+	// Experts far apart are drawn where their scores put them, and the
+	// caption says nothing of moving them.
+	html := render(t, Scores(ScoresView{Alpha: 0.1, Rows: []ScoreRow{
+		{Expert: "Invented A", Calibration: 0.9, Information: 1.5, Weight: 0.6},
+		{Expert: "Invented B", Calibration: 0.2, Information: 0.3, Weight: 0.4},
+	}}))
+	if strings.Contains(html, "drawn apart") {
+		t.Error("discs far apart are said to be moved")
 	}
 }
