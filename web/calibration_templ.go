@@ -1182,7 +1182,7 @@ func scoresSection(v calibrationView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if v.Unshown > 0 {
+		if v.Unshown > 0 && v.Perf != nil {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 106, "<p class=\"muted\" id=\"scores-provisional\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err

@@ -1158,6 +1158,10 @@ func TestScoringRefusalNamesTheAnswer(t *testing.T) {
 	if !strings.Contains(body, "The classical model could not score the panel: "+want) {
 		t.Errorf("the calibration page does not name the answer that broke the rule:\n%s", excerpt(body, "could not score"))
 	}
+	// No scores, so nothing to call provisional.
+	if strings.Contains(body, "these scores are provisional") {
+		t.Error("the page calls scores provisional that the model could not give")
+	}
 	before := h.counts(ws.ID)
 	res, body := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scores are in (invented)"}})
 	if res.StatusCode < 400 || res.StatusCode >= 500 || !hasFieldError(body, "scheme") || !strings.Contains(body, want) || strings.Contains(body, "assessments[") {
