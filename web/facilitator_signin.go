@@ -20,7 +20,7 @@ func (s *Server) signIn(w http.ResponseWriter, r *http.Request) {
 	if !parseForm(w, r) {
 		return
 	}
-	if wait := s.signIns.admit(clientAddress(r), s.now()); wait > 0 {
+	if wait := s.signIns.admit(clientAddress(r), fromOwnMachine(r), s.now()); wait > 0 {
 		s.tooManySignIns(w, r, wait)
 		return
 	}

@@ -156,3 +156,87 @@ func TestSignInThrottled(t *testing.T) {
 		t.Errorf("%d comparisons ran at once, want 1", m)
 	}
 }
+
+// A sign-in flood from the room's network spends the network's overall
+// allowance, and the facilitator at the server's own machine still gets
+// in: the own machine's attempts draw on an allowance of their own. A
+// facilitator on another device shares the network's and waits.
+func TestSignInFloodLeavesTheOwnMachineItsAllowance(t *testing.T) {
+	th := newSignInThrottle()
+	now := time.Date(2026, 5, 4, 9, 0, 0, 0, time.UTC)
+	for i := range 20 {
+		th.admit("192.0.2."+strconv.Itoa(i+1), false, now)
+	}
+	if wait := th.admit("192.0.2.200", false, now); wait <= 0 {
+		t.Fatal("the network's allowance is not spent by the flood")
+	}
+	if wait := th.admit("192.168.1.20", true, now); wait != 0 {
+		t.Errorf("the own machine waits %v behind the network's flood", wait)
+	}
+	// The own machine is held to its own allowance in turn.
+	for i := range SignInBurst {
+		th.admit("127.0.0."+strconv.Itoa(10+i), true, now)
+	}
+	if wait := th.admit("127.0.0.99", true, now); wait <= 0 {
+		t.Error("the own machine's attempts are not limited")
+	}
+}
+
+// fromOwnMachine: a loopback peer, or a peer at the very address the
+// connection reached the server on, is the server's own machine; any
+// other peer is not, whatever it sends.
+func TestFromOwnMachine(t *testing.T) {
+	local := &net.TCPAddr{IP: net.ParseIP("192.168.1.20"), Port: 8080}
+	for _, c := range []struct {
+		remote string
+		local  net.Addr
+		want   bool
+	}{
+		{"127.0.0.1:50000", local, true},
+		{"[::1]:50000", local, true},
+		{"127.0.0.7:50000", nil, true},
+		{"192.168.1.20:50000", local, true},
+		{"192.168.1.21:50000", local, false},
+		{"192.168.1.20:50000", nil, false},
+		{"[2001:db8::5]:50000", &net.TCPAddr{IP: net.ParseIP("2001:db8::5"), Port: 8080}, true},
+		{"[2001:db8::6]:50000", &net.TCPAddr{IP: net.ParseIP("2001:db8::5"), Port: 8080}, false},
+		{"not an address", local, false},
+	} {
+		r := httptest.NewRequest(http.MethodPost, "/signin", nil)
+		r.RemoteAddr = c.remote
+		r.Header.Set("X-Forwarded-For", "127.0.0.1")
+		if c.local != nil {
+			r = r.WithContext(context.WithValue(r.Context(), http.LocalAddrContextKey, c.local))
+		}
+		if got := fromOwnMachine(r); got != c.want {
+			t.Errorf("peer %s, reached at %v: own machine %v, want %v", c.remote, c.local, got, c.want)
+		}
+	}
+}
+
+// Through the sign-in page: with the network's allowance spent by a
+// flood, the right secret posted from this machine (loopback) signs in.
+func TestSignInFromTheOwnMachineDuringANetworkFlood(t *testing.T) {
+	db, err := store.Open(t.TempDir() + "/parley.db")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	clock := time.Date(2026, 5, 4, 9, 0, 0, 0, time.UTC)
+	s, err := New(db, Options{Now: func() time.Time { return clock }})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(s.Handler())
+	t.Cleanup(ts.Close)
+	secret, err := IssueFacilitatorSecret(context.Background(), db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for i := range 50 {
+		s.signIns.admit("198.51.100."+strconv.Itoa(i+1), false, clock)
+	}
+	if res, _ := postSignIn(t, clientFrom("127.0.0.1"), ts.URL, secret); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("the right secret from this machine during a network flood: %d, want 303", res.StatusCode)
+	}
+}
