@@ -154,9 +154,10 @@ func warningWords(code elicit.WarningCode, n, of int, proportion bool) (title, l
 		return "J-shaped fit" + count, "α or β is below 1: " + theFit + " rises without limit towards that bound (α the lower, β the upper), so values right at the bound are the most likely. Check with " +
 			each + " that this is what they meant."
 	case elicit.WarnNearCertainty:
-		weight := "α + β is above " + limit
+		// "α + β" kept on one line, as the lines under it keep theirs.
+		weight := "α\u00a0+\u00a0β is above " + limit
 		if proportion {
-			weight = "it is worth more than " + limit + " observed trials (α + β above " + limit + ")"
+			weight = "it is worth more than " + limit + " observed trials (α\u00a0+\u00a0β above " + limit + ")"
 		}
 		return "Near-certainty" + count, fit + " implies near-certainty about the value: " + weight + ". Check that " + each + " really is this sure."
 	case elicit.WarnBeyondDouble:

@@ -56,9 +56,9 @@ func TestWarningsWriteAlphaAndBeta(t *testing.T) {
 	for i, q := range []workshop.Question{qs[0], days} {
 		sec := reportSection(t, report, q.ID)
 		limit := strconv.Itoa(elicit.NearCertaintyESS)
-		want := "α + β is above " + limit
+		want := "α\u00a0+\u00a0β is above " + limit
 		if q.IsProportion() {
-			want = "worth more than " + limit + " observed trials (α + β above " + limit + ")"
+			want = "worth more than " + limit + " observed trials (α\u00a0+\u00a0β above " + limit + ")"
 		}
 		checkWarningWords(t, "report Q"+strconv.Itoa(q.Position), sec, want, q.IsProportion())
 		checkWarningWords(t, "report Q"+strconv.Itoa(q.Position), sec, es[0].Name+": α\u00a0+\u00a0β\u00a0=\u00a0"+sums[i], q.IsProportion())
