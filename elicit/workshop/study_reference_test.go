@@ -129,3 +129,52 @@ func TestStudyUpdateAgainstSciPy(t *testing.T) {
 		check("conflict_two_sided", u.Conflict.TwoSided, 1e-9)
 	}
 }
+
+// TestSensitivityAgainstSciPy: the study page's comparison of priors
+// (elicit.Sensitivity over ComparedPriors) gives each prior's posterior
+// summary; for each invented case of
+// testdata/scipy/posterior_summary_reference.py, with the batches' totals
+// as the data, its row must be SciPy's, with the tolerances of
+// TestStudyUpdateAgainstSciPy, and the data's share of the posterior mean
+// must be n/(α + β + n) (the posterior mean is that mixture of the prior
+// mean and s/n, BDA3 §2.4).
+func TestSensitivityAgainstSciPy(t *testing.T) {
+	cases := studyReference(t)
+	var priors []elicit.NamedPrior
+	for _, c := range cases {
+		priors = append(priors, elicit.NamedPrior{Name: c.name, Prior: c.prior})
+	}
+	for _, c := range cases {
+		s, n, _ := DataTotals(c.batches, 7)
+		rows, err := elicit.Sensitivity(priors, s, n, UpdateLevel)
+		if err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		var r *elicit.SensitivityRow
+		for i := range rows {
+			if rows[i].Name == c.name {
+				r = &rows[i]
+			}
+		}
+		if r == nil {
+			t.Fatalf("%s: no row", c.name)
+		}
+		for _, v := range []struct {
+			kind string
+			got  float64
+			tol  float64
+		}{
+			{"post_alpha", r.Posterior.Alpha, 0}, {"post_beta", r.Posterior.Beta, 0},
+			{"mean", r.Mean, 1e-12}, {"sd", r.SD, 1e-12},
+			{"eqt_lo", r.Interval[0], 1e-9}, {"eqt_hi", r.Interval[1], 1e-9},
+			{"hdi_lo", r.HDI[0], 1e-7}, {"hdi_hi", r.HDI[1], 1e-7},
+		} {
+			if want := c.want[v.kind]; math.Abs(v.got-want) > v.tol*math.Abs(want) {
+				t.Errorf("%s: %s %.17g, SciPy %.17g", c.name, v.kind, v.got, want)
+			}
+		}
+		if want := float64(n) / (c.prior.Alpha + c.prior.Beta + float64(n)); math.Abs(r.DataShare-want) > 1e-15 {
+			t.Errorf("%s: data share %v, want %v", c.name, r.DataShare, want)
+		}
+	}
+}
