@@ -201,14 +201,14 @@ func TestConstruct(t *testing.T) {
 		t.Errorf("mean 50 sd 20 on [0, 200]: %+v mean %v sd %v", c.Dist, c.Dist.Mean(), c.Dist.SD())
 	}
 	// Moment match of [0.2, 0.4] at 95%: m = 0.3, sd = 0.1/z with
-	// z = Φ⁻¹(0.975) = 1.959963984540054, k = 0.21/sd² − 1 = 79.670635…,
+	// z = Φ⁻¹(0.975) = 1.9599639845400536 (R: qnorm(0.975)), k = 0.21/sd² − 1 = 79.670635…,
 	// α = 0.3k = 23.9012, β = 0.7k = 55.7694 (R agrees:
 	// TestFromIntervalMomentsAgainstR).
 	c, err = Construct(ConstructionInput{Method: MethodIntervalMoments, Low: 0.2, High: 0.4, Coverage: 0.95, Lower: 0, Upper: 1})
 	if err != nil {
 		t.Fatal(err)
 	}
-	sd := 0.1 / 1.959963984540054
+	sd := 0.1 / 1.9599639845400536
 	k := 0.21/(sd*sd) - 1
 	if !near(c.Dist.Alpha, 0.3*k) || !near(c.Dist.Beta.Beta, 0.7*k) {
 		t.Errorf("moments [0.2, 0.4]: %+v, want Beta(%v, %v)", c.Dist, 0.3*k, 0.7*k)
