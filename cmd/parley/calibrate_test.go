@@ -498,6 +498,131 @@ func TestCalibrateAgainstSciPy(t *testing.T) {
 	}
 }
 
+// TestCalibrateLeaveOneOutAgainstSciPy: the robustness report of
+// `parley calibrate --leave-one-out` (elicit.LeaveOneOut, the table on the
+// calibration page) against SciPy 1.10.1's reruns of the classical model
+// without each calibration question and each expert
+// (testdata/scipy/leave_one_out_reference.py, on the invented
+// calibration files, with the cut-off optimised and fixed at 0.1): every
+// rerun's cut-off and weights, the full panel's and every rerun's pooled
+// 5th, 50th and 95th percentiles on every calibration question, the
+// shifts and the largest shift. Tolerance as TestCalibrateAgainstSciPy's,
+// 1e-9 relative; a shift, a difference of percentiles over a width,
+// within 1e-9.
+func TestCalibrateLeaveOneOutAgainstSciPy(t *testing.T) {
+	data, err := os.ReadFile("../../testdata/scipy/leave_one_out_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !bytes.HasPrefix(data, []byte("# scipy 1.10.1")) {
+		t.Fatal("the reference's first line should name SciPy's version")
+	}
+	r := csv.NewReader(bytes.NewReader(data))
+	r.Comment = '#'
+	rows, err := r.ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	type run struct{ file, mode string }
+	want := map[run][][]string{}
+	var order []run
+	for _, row := range rows[1:] {
+		k := run{row[0], row[1]}
+		if _, ok := want[k]; !ok {
+			order = append(order, k)
+		}
+		want[k] = append(want[k], row[2:])
+	}
+	if len(want) != 6 {
+		t.Fatalf("%d runs in the reference, want 6", len(want))
+	}
+	for _, k := range order {
+		args := []string{"calibrate", "--format", "json", "--leave-one-out", "--input", "../../" + k.file}
+		if k.mode != "optimised" {
+			args = append(args, "--alpha", k.mode)
+		}
+		code, out, errOut := runCLI(t, "", args...)
+		if code != 0 {
+			t.Fatalf("%v: exit %d: %s", args, code, errOut)
+		}
+		var got struct {
+			LeaveOneOut *elicit.LeaveOneOutReport `json:"leave_one_out"`
+		}
+		decodeJSON(t, out, &got)
+		rep := got.LeaveOneOut
+		if rep == nil {
+			t.Fatalf("%v: no leave_one_out in %s", args, out)
+		}
+		target := map[string]int{}
+		for i, q := range rep.Targets {
+			target[q] = i
+		}
+		cases := map[[2]string]elicit.LeaveOneOutCase{}
+		for _, c := range rep.Cases {
+			if c.Error != "" {
+				t.Errorf("%v: %s %s failed: %s", args, c.LeftOut, c.Name, c.Error)
+			}
+			cases[[2]string{c.LeftOut, c.Name}] = c
+		}
+		maxShift, checked := 0.0, 0
+		for _, row := range want[k] {
+			leftOut, name, what, key := row[0], row[1], row[2], row[3]
+			w, err := strconv.ParseFloat(row[4], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			where := fmt.Sprintf("%s %s: %s %s: %s %s", k.file, k.mode, leftOut, name, what, key)
+			c, ok := cases[[2]string{leftOut, name}]
+			if leftOut != "full" && !ok {
+				t.Errorf("%s: no such case in the report", where)
+				continue
+			}
+			ti, isTarget := target[key]
+			if (what == "p05" || what == "p50" || what == "p95" || what == "shift") && !isTarget {
+				t.Errorf("%s: no such target in the report", where)
+				continue
+			}
+			var g float64
+			tol := 1e-9 * math.Max(math.Abs(w), 1e-12)
+			switch what {
+			case "alpha":
+				if g = c.Alpha; leftOut == "full" {
+					continue // the full panel's cut-off is TestCalibrateAgainstSciPy's
+				}
+			case "weight":
+				g = c.Weights[key]
+			case "p05", "p50", "p95":
+				i := map[string]int{"p05": 0, "p50": 1, "p95": 2}[what]
+				if leftOut == "full" {
+					g = rep.Full[ti][i]
+				} else if c.Percentiles[ti] == nil {
+					t.Errorf("%s: not pooled", where)
+					continue
+				} else {
+					g = c.Percentiles[ti][i]
+				}
+			case "shift":
+				g, tol = c.Shifts[ti], 1e-9
+			case "case_shift":
+				g, tol = c.Shift, 1e-9
+				maxShift = math.Max(maxShift, w)
+			default:
+				t.Fatalf("%s: unknown row", where)
+			}
+			if math.Abs(g-w) > tol {
+				t.Errorf("%s = %.17g, SciPy %.17g", where, g, w)
+			}
+			checked++
+		}
+		if checked < 300 || len(rep.Cases) == 0 {
+			t.Errorf("%s %s: %d values checked, %d cases", k.file, k.mode, checked, len(rep.Cases))
+		}
+		if math.Abs(rep.MaxShift-maxShift) > 1e-9 {
+			t.Errorf("%s %s: largest shift %v, SciPy %v", k.file, k.mode, rep.MaxShift, maxShift)
+		}
+	}
+}
+
 // TestCalibrateBoundsCutTheRange: a question's bounds cut its intrinsic
 // range as on the calibration page; the same answers without them score
 // otherwise (the percentages' ranges, widened by 10%, pass below 0).
