@@ -3,6 +3,8 @@ package elicit
 import (
 	"errors"
 	"math"
+	"strconv"
+	"strings"
 	"testing"
 )
 
@@ -299,5 +301,60 @@ func TestFitChipsRules(t *testing.T) {
 	var ie *InputError
 	if _, err := FitChips(edges, []int{1, 2, 3, 2, 1}); errors.As(err, &ie) {
 		t.Errorf("valid chips rejected: %v", err)
+	}
+}
+
+// TestFitChipsAgainstSciPy: the chips fit against SciPy 1.10.1's global
+// least-squares search over the whole shape box on the same cumulative
+// shares (testdata/scipy/chips_fit_reference.py: a lattice of starts and
+// scipy.optimize.least_squares; Boost's incomplete beta), for invented
+// histograms, with empty bins inside and at the ends, uneven bins, scaled
+// bounds, chips at both ends. Tolerance: the objective within 1e-9
+// relative or 1e-15 (an exact fit), the shapes within 1e-5 relative
+// (the objective is flat to second order at its minimum).
+func TestFitChipsAgainstSciPy(t *testing.T) {
+	rows := referenceTable(t, "../testdata/scipy/chips_fit_reference.csv", "# scipy 1.10.1", 6)
+	if len(rows) < 8 {
+		t.Fatalf("%d histograms in the reference table", len(rows))
+	}
+	for _, c := range rows {
+		var edges []float64
+		for _, s := range strings.Split(c[1], ";") {
+			v, err := strconv.ParseFloat(s, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			edges = append(edges, v)
+		}
+		var counts []int
+		for _, s := range strings.Split(c[2], ";") {
+			k, err := strconv.Atoi(s)
+			if err != nil {
+				t.Fatal(err)
+			}
+			counts = append(counts, k)
+		}
+		var want [3]float64
+		for i := range want {
+			v, err := strconv.ParseFloat(c[3+i], 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			want[i] = v
+		}
+		f, err := FitChips(edges, counts)
+		if err != nil {
+			t.Errorf("%s: %v", c[0], err)
+			continue
+		}
+		if f.SSE > want[2]*(1+1e-9)+1e-15 || !(math.Abs(f.SSE-want[2]) <= 1e-9*want[2]+1e-15) {
+			t.Errorf("%s: objective %.12g, SciPy's global minimum %.12g", c[0], f.SSE, want[2])
+		}
+		if !relClose(f.Dist.Alpha, want[0], 1e-5) || !relClose(f.Dist.Beta.Beta, want[1], 1e-5) {
+			t.Errorf("%s: Beta(%.10g, %.10g), SciPy Beta(%.10g, %.10g)", c[0], f.Dist.Alpha, f.Dist.Beta.Beta, want[0], want[1])
+		}
+		if f.Dist.Lower != edges[0] || f.Dist.Upper != edges[len(edges)-1] {
+			t.Errorf("%s: bounds [%v, %v]", c[0], f.Dist.Lower, f.Dist.Upper)
+		}
 	}
 }
