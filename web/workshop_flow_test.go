@@ -360,6 +360,8 @@ func TestWholeWorkshop(t *testing.T) {
 	// The mean of a finite mixture is the weight-averaged mean of its
 	// components (law of total expectation; e.g. Frühwirth-Schnatter 2006,
 	// "Finite Mixture and Markov Switching Models", §1.2.4; from memory).
+	// elicit's TestBestBetaAgainstSciPy checks Pool.Mean and Pool.SD
+	// against SciPy's moments, which its script checks by quadrature.
 	mix /= wsum
 	late := byQuantity[qLate]
 	if late.Pool == nil {
