@@ -49,6 +49,34 @@ func clientFrom(ip string) *http.Client {
 	}
 }
 
+// signInServer serves a new database on loopback with the server's clock
+// now, and issues a facilitator secret. With st, the server reads the
+// database through it (st.DB is set to the database).
+func signInServer(t *testing.T, st *inFlight, now func() time.Time) (*Server, *httptest.Server, string) {
+	t.Helper()
+	db, err := store.Open(t.TempDir() + "/parley.db")
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { db.Close() })
+	var through Store = db
+	if st != nil {
+		st.DB = db
+		through = st
+	}
+	s, err := New(through, Options{Now: now})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(s.Handler())
+	t.Cleanup(ts.Close)
+	secret, err := IssueFacilitatorSecret(context.Background(), db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return s, ts, secret
+}
+
 func postSignIn(t *testing.T, c *http.Client, base, secret string) (*http.Response, string) {
 	t.Helper()
 	req, err := http.NewRequest(http.MethodPost, base+"/signin", strings.NewReader(url.Values{"secret": {secret}}.Encode()))
@@ -72,26 +100,13 @@ func postSignIn(t *testing.T, c *http.Client, base, secret string) (*http.Respon
 // the overall allowance; and comparisons never overlap (issue 13, item
 // 2). The clock is the server's own, moved by the test.
 func TestSignInThrottled(t *testing.T) {
-	db, err := store.Open(t.TempDir() + "/parley.db")
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { db.Close() })
-	st := &inFlight{DB: db}
+	st := &inFlight{}
 	clock := time.Date(2026, 5, 4, 9, 0, 0, 0, time.UTC)
 	var clockMu sync.Mutex
 	now := func() time.Time { clockMu.Lock(); defer clockMu.Unlock(); return clock }
 	advance := func(d time.Duration) { clockMu.Lock(); clock = clock.Add(d); clockMu.Unlock() }
-	s, err := New(st, Options{Now: now})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ts := httptest.NewServer(s.Handler())
-	t.Cleanup(ts.Close)
-	secret, err := IssueFacilitatorSecret(context.Background(), db)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, ts, secret := signInServer(t, st, now)
+	db := st.DB
 	wrong := strings.Repeat("A", 43)
 
 	one := clientFrom("127.0.0.1")
@@ -217,22 +232,8 @@ func TestFromOwnMachine(t *testing.T) {
 // Through the sign-in page: with the network's allowance spent by a
 // flood, the right secret posted from this machine (loopback) signs in.
 func TestSignInFromTheOwnMachineDuringANetworkFlood(t *testing.T) {
-	db, err := store.Open(t.TempDir() + "/parley.db")
-	if err != nil {
-		t.Fatal(err)
-	}
-	t.Cleanup(func() { db.Close() })
 	clock := time.Date(2026, 5, 4, 9, 0, 0, 0, time.UTC)
-	s, err := New(db, Options{Now: func() time.Time { return clock }})
-	if err != nil {
-		t.Fatal(err)
-	}
-	ts := httptest.NewServer(s.Handler())
-	t.Cleanup(ts.Close)
-	secret, err := IssueFacilitatorSecret(context.Background(), db)
-	if err != nil {
-		t.Fatal(err)
-	}
+	s, ts, secret := signInServer(t, nil, func() time.Time { return clock })
 	for i := range 50 {
 		s.signIns.admit("198.51.100."+strconv.Itoa(i+1), false, clock)
 	}

@@ -21,14 +21,8 @@ func TestWritePriorsCSV(t *testing.T) {
 	src := workshoptest.PumpSeals()
 	src.Questions[0].Quantity = "=share, \"first\" year"
 	src.Priors[1].Rationale = "agreed in discussion,\nafter \"round 2\""
-	r, err := Build(src, t0.Add(time.Hour))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var buf bytes.Buffer
-	if err := r.WritePriorsCSV(&buf); err != nil {
-		t.Fatal(err)
-	}
+	text, rows, back := priorsCSVAndRecord(t, src)
+	buf := bytes.NewBufferString(text)
 	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings\n"
 	if !strings.HasPrefix(buf.String(), header) {
 		t.Fatalf("header:\n%s", buf.String())
@@ -37,19 +31,6 @@ func TestWritePriorsCSV(t *testing.T) {
 	// whole, its quotes doubled.
 	if !strings.Contains(buf.String(), `"agreed in discussion,`+"\n"+`after ""round 2"""`) {
 		t.Errorf("rationale not quoted as RFC 4180 asks:\n%s", buf.String())
-	}
-	rows, err := csv.NewReader(&buf).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	// The JSON record, read back as a client would.
-	js, err := json.Marshal(r)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var back Record
-	if err := json.Unmarshal(js, &back); err != nil {
-		t.Fatal(err)
 	}
 	var want [][]string
 	for _, q := range back.Questions {
@@ -88,26 +69,7 @@ func TestPriorsCSVCarriesAPointWrittenAsABound(t *testing.T) {
 	src := workshoptest.PumpSeals()
 	last := &src.Priors[len(src.Priors)-1]
 	last.Dist.Alpha, last.Dist.Beta.Beta = 2e-4, 2e-4
-	r, err := Build(src, t0.Add(time.Hour))
-	if err != nil {
-		t.Fatal(err)
-	}
-	var buf bytes.Buffer
-	if err := r.WritePriorsCSV(&buf); err != nil {
-		t.Fatal(err)
-	}
-	rows, err := csv.NewReader(&buf).ReadAll()
-	if err != nil {
-		t.Fatal(err)
-	}
-	js, err := json.Marshal(r)
-	if err != nil {
-		t.Fatal(err)
-	}
-	var back Record
-	if err := json.Unmarshal(js, &back); err != nil {
-		t.Fatal(err)
-	}
+	_, rows, back := priorsCSVAndRecord(t, src)
 	var a *Prior
 	var agreed Question
 	for _, q := range back.Questions {
@@ -145,4 +107,32 @@ func TestPriorsCSVCarriesAPointWrittenAsABound(t *testing.T) {
 	if err := checkCurrentPrior("agreed_prior", agreed); err == nil || !strings.Contains(err.Error(), "agreed_prior.warnings") {
 		t.Errorf("a changed prior warning is read back: %v", err)
 	}
+}
+
+// priorsCSVAndRecord builds src's record and writes its priors CSV: the
+// CSV's text and rows, and the JSON record read back as a client would.
+func priorsCSVAndRecord(t *testing.T, src workshop.Snapshot) (string, [][]string, Record) {
+	t.Helper()
+	r, err := Build(src, t0.Add(time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	var buf bytes.Buffer
+	if err := r.WritePriorsCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	text := buf.String()
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	js, err := json.Marshal(r)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var back Record
+	if err := json.Unmarshal(js, &back); err != nil {
+		t.Fatal(err)
+	}
+	return text, rows, back
 }
