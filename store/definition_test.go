@@ -168,4 +168,11 @@ func TestRevealFreezeChangedWithoutAnEventIsRefused(t *testing.T) {
 	if err := parse(exportJSON(t, db, p.w.ID)); err != nil {
 		t.Fatalf("a reveal without the freeze in its event, its freeze moved: %v", err)
 	}
+	// Even then the freeze must name one of the question's own answers.
+	_, err = db.w.ExecContext(ctx, `UPDATE questions SET revealed_through = ? WHERE id = ?`, revs[2].ID+1000, q.ID)
+	must(t, err)
+	var ie *elicit.InputError
+	if err := parse(exportJSON(t, db, p.w.ID)); !errors.As(err, &ie) || ie.Field != "questions[1].revealed_through" {
+		t.Errorf("a freeze naming no revision of the question: the record reads with %v, want questions[1].revealed_through refused", err)
+	}
 }

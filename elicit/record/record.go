@@ -432,9 +432,10 @@ func FitOf(f elicit.Fit) *Fit {
 // ForQuestion narrows the record to one question: its revisions, its
 // events and the workshop-wide events. The panel and weights stay whole,
 // and so does the evidence behind any performance weights (the
-// calibration questions their bases scored or left out, and the
-// revisions they scored), so the narrowed record still reproduces the
-// question's pools.
+// calibration questions their bases scored or left out, the revisions
+// they scored, and the revision each such question's freeze names), so
+// the narrowed record still reproduces the question's pools and reads
+// back.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events = nil, nil, nil
@@ -466,6 +467,10 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 	for _, q := range r.Questions {
 		if keepQ[q.ID] {
 			out.Questions = append(out.Questions, q)
+			// The revision its freeze names, which a record must hold.
+			if q.RevealedThrough > 0 {
+				keepR[q.RevealedThrough] = true
+			}
 		}
 	}
 	for _, rv := range r.Revisions {

@@ -183,6 +183,15 @@ func (r Record) validate(fits []elicit.Fit) error {
 			}
 		}
 	}
+	// A question's freeze names one of its own revisions, the last saved
+	// when its true value was revealed, as the store sets it: any other
+	// number would be read back, and exported again, as another freeze.
+	for i, q := range r.Questions {
+		if id := q.RevealedThrough; id > 0 && pooled[id].question != q.ID {
+			return inputErr(fmt.Sprintf("questions[%d].revealed_through", i), elicit.RuleUnknown,
+				"no revision %d on question %d in the record", id, q.ID)
+		}
+	}
 	if err := r.checkWeightHistory(experts, questions); err != nil {
 		return err
 	}
