@@ -394,3 +394,33 @@ func TestCorrectionKeepsARevealedQuestionACalibrationQuestion(t *testing.T) {
 		t.Fatalf("the record after the corrections: %v", err)
 	}
 }
+
+// A new question comes unrevealed, in use and on the uniform background:
+// one that comes with any of these set is refused, naming the field,
+// and nothing is stored (before, a revealed one was stored revealed with
+// no time, no freeze and no event, and the other two were dropped
+// without a word).
+func TestAddQuestionRefusesWhatIsSetLater(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
+	must(t, db.CreateWorkshop(ctx, &w))
+	for field, set := range map[string]func(*workshop.Question){
+		"revealed":               func(q *workshop.Question) { q.Revealed = true },
+		"retired":                func(q *workshop.Question) { q.Retired = true },
+		"log_uniform_background": func(q *workshop.Question) { q.LogScale = true },
+	} {
+		q := workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
+			Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+		x := 420.0
+		q.TrueValue = &x
+		set(&q)
+		var ie *elicit.InputError
+		if err := db.AddQuestion(ctx, &q); !errors.As(err, &ie) || ie.Field != field {
+			t.Errorf("%s: %v, want %s refused", field, err, field)
+		}
+	}
+	if qs, err := db.Questions(ctx, w.ID); err != nil || len(qs) != 0 {
+		t.Fatalf("refused questions stored: %d, %v", len(qs), err)
+	}
+}

@@ -12,12 +12,32 @@ import (
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
+// ruleSetLater refuses a new question that comes already revealed,
+// retired or on the log-uniform background.
+const ruleSetLater elicit.Rule = "is set after the question is added, with its own event in the decision log"
+
 const questionColumns = `id, workshop_id, position, wording, quantity, units, lower, upper, format,
 	probs, bin_edges, chips, calibration, true_value, revealed, revealed_at, revealed_through, retired, log_uniform_background`
 
 // AddQuestion appends q to its workshop's questions, recording
-// EventQuestionAdded. It sets q's ID and Position.
+// EventQuestionAdded. It sets q's ID and Position. A question starts
+// unrevealed, in use and on the uniform background: its reveal, its
+// retirement and its background are set later, each with its own event
+// (SetTrueValue, SetQuestionRetired, SetLogScale), and a question that
+// comes with any of them set is refused, not stored without it.
 func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
+	for _, later := range []struct {
+		field string
+		set   bool
+	}{
+		{"revealed", q.Revealed || q.RevealedAt != nil || q.RevealedThrough != 0},
+		{"retired", q.Retired},
+		{"log_uniform_background", q.LogScale},
+	} {
+		if later.set {
+			return &elicit.InputError{Field: later.field, Rule: ruleSetLater, Detail: "a new question"}
+		}
+	}
 	probs, err := marshalList(q.Probs)
 	if err != nil {
 		return err
@@ -38,10 +58,10 @@ func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
 		}
 		res, err := tx.ExecContext(ctx,
 			`INSERT INTO questions (workshop_id, position, wording, quantity, units, lower, upper, format,
-			 probs, bin_edges, chips, calibration, true_value, revealed)
-			 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
+			 probs, bin_edges, chips, calibration, true_value)
+			 VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`,
 			q.WorkshopID, pos, q.Wording, q.Quantity, q.Units, q.Lower, q.Upper, string(q.Format),
-			probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue), boolInt(q.Revealed))
+			probs, edges, q.Chips, boolInt(q.Calibration), nullFloat(q.TrueValue))
 		if err != nil {
 			return fmt.Errorf("store: add question: %w", err)
 		}
