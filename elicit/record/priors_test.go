@@ -103,9 +103,26 @@ func TestPriorsCSVCarriesAPointWrittenAsABound(t *testing.T) {
 	if err := checkCurrentPrior("agreed_prior", agreed); err != nil {
 		t.Fatalf("the record as written: %v", err)
 	}
-	a.Warnings[0].Message = "all is well"
-	if err := checkCurrentPrior("agreed_prior", agreed); err == nil || !strings.Contains(err.Error(), "agreed_prior.warnings") {
-		t.Errorf("a changed prior warning is read back: %v", err)
+	kept := append([]Warning(nil), a.Warnings...)
+	for name, change := range map[string]func([]Warning) []Warning{
+		"a warning dropped": func(ws []Warning) []Warning { return ws[1:] },
+		"none":              func([]Warning) []Warning { return []Warning{} },
+		"another code":      func(ws []Warning) []Warning { ws[0].Code = "j_shaped"; return ws },
+	} {
+		a.Warnings = change(append([]Warning(nil), kept...))
+		if err := checkCurrentPrior("agreed_prior", agreed); err == nil || !strings.Contains(err.Error(), "agreed_prior.warnings") {
+			t.Errorf("%s: read back: %v", name, err)
+		}
+	}
+	// The words are the writing version's: a record whose warnings are
+	// worded otherwise, as another version of Parley words them (or with
+	// a figure a digit apart), still reads.
+	a.Warnings = append([]Warning(nil), kept...)
+	for i := range a.Warnings {
+		a.Warnings[i].Message = "worded by another version: " + a.Warnings[i].Message
+	}
+	if err := checkCurrentPrior("agreed_prior", agreed); err != nil {
+		t.Errorf("a record whose warnings are worded otherwise: %v", err)
 	}
 }
 

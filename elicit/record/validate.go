@@ -23,7 +23,8 @@ import (
 // must match the fresh one (ValidateFits). A question's agreed_prior must be the last of its
 // prior_history, with its Beta's own mean, sd and percentiles
 // (RulePriorMismatch): it is the number the record's reader was given,
-// and an import keeps the history. A prior from the pool that names the
+// and an import keeps the history; its warnings, where it has them, must
+// carry its Beta's codes (their words are the writing version's). A prior from the pool that names the
 // revisions it pooled must be the single Beta of their pool under its
 // weight set (RulePoolMismatch). The other derived numbers (the current
 // pools, snippets) are not trusted and not checked: an import drops them. A record's chain and
@@ -360,12 +361,26 @@ func checkCurrentPrior(p string, q Question) error {
 			return inputErr(p+"."+c.name, RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", c.got, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, c.want)
 		}
 	}
-	// Warnings are the Beta's own; a record from before they were kept
-	// has none to check.
-	if cur.Warnings != nil && !slices.Equal(cur.Warnings, priorWarnings(d)) {
-		return inputErr(p+".warnings", RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", cur.Warnings, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, priorWarnings(d))
+	// Warnings are the Beta's own: the same codes, in order. Their words
+	// are the writing version's (a later version may word them anew, or
+	// print a figure in them a digit apart, as the summary's numbers are
+	// held only to summaryAgreement); a record from before they were
+	// kept has none to check.
+	if cur.Warnings != nil {
+		if got, want := warningCodes(cur.Warnings), warningCodes(priorWarnings(d)); !slices.Equal(got, want) {
+			return inputErr(p+".warnings", RulePriorMismatch, "codes %v, but Beta(%g, %g) on [%g, %g] has %v", got, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, want)
+		}
 	}
 	return nil
+}
+
+// warningCodes are the codes of ws, in order.
+func warningCodes(ws []Warning) []string {
+	codes := make([]string, len(ws))
+	for i, w := range ws {
+		codes[i] = w.Code
+	}
+	return codes
 }
 
 // relDiff is |a − b| relative to the larger magnitude.
