@@ -224,12 +224,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
 			forms.alpha.Fail(err, nil)
-			v.PerfError = "it failed; the details are in the server log"
-			if isInputError(err) {
-				v.PerfError = scoringProblem(err, d)
-			} else {
-				s.log.Error("classical model", "workshop", ws.ID, "err", err)
-			}
+			v.PerfError = s.scoringProblem(err, d)
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()
@@ -237,7 +232,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}
 			if rb, err := workshop.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
-				v.RobustnessError = scoringProblem(err, d)
+				v.RobustnessError = s.scoringProblem(err, d)
 			} else {
 				v.Robustness = &rb
 			}
@@ -439,7 +434,7 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 			if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Field == "alpha" {
 				f.Fail(err, nil)
 			} else {
-				f.set("scheme", "the classical model could not score the panel: "+scoringProblem(err, d))
+				f.set("scheme", "the classical model could not score the panel: "+s.scoringProblem(err, d))
 			}
 			break
 		}
@@ -481,10 +476,13 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 
 // scoringProblem says in the facilitator's words why the classical model
 // refused the panel: the rule, and the calibration question, expert and
-// quantile that broke it where workshop.ScoringError places them.
-func scoringProblem(err error, d workshopData) string {
+// quantile that broke it where workshop.ScoringError places them. Any
+// other failure is the server's: it goes to the server log, which the
+// words point to.
+func (s *Server) scoringProblem(err error, d workshopData) string {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
+		s.log.Error("classical model", "workshop", d.Workshop.ID, "err", err)
 		return "it failed; the details are in the server log"
 	}
 	var se *workshop.ScoringError

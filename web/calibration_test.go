@@ -3,7 +3,9 @@ package web
 import (
 	"context"
 	"encoding/csv"
+	"errors"
 	"io"
+	"log/slog"
 	"math"
 	"net/http"
 	"net/url"
@@ -1179,4 +1181,27 @@ func excerpt(body, key string) string {
 		return "(" + strconv.Quote(key) + " not found)"
 	}
 	return body[max(0, i-200):min(len(body), i+600)]
+}
+
+// A refusal of the classical model that is not about the answers is
+// written to the server log, as the words on the page ("the details are
+// in the server log") say: the weights form and the robustness section
+// said so and logged nothing, and the cause was lost.
+func TestScoringFailureIsLogged(t *testing.T) {
+	var logs strings.Builder
+	s := &Server{log: slog.New(slog.NewTextHandler(&logs, nil))}
+	d := workshopData{Workshop: workshop.Workshop{ID: 7}}
+	if got := s.scoringProblem(errors.New("the optimiser gave no cut-off (invented)"), d); got != "it failed; the details are in the server log" {
+		t.Errorf("the page reads %q", got)
+	}
+	if !strings.Contains(logs.String(), "the optimiser gave no cut-off (invented)") || !strings.Contains(logs.String(), "workshop=7") {
+		t.Errorf("the server log lacks the cause: %q", logs.String())
+	}
+	// A refusal about the answers is the facilitator's to read, not a
+	// fault: nothing is logged.
+	logs.Reset()
+	s.scoringProblem(&elicit.InputError{Field: "questions[\"q1\"]", Rule: elicit.RuleRangeCollapsed}, d)
+	if logs.Len() != 0 {
+		t.Errorf("a refusal of the answers was logged: %q", logs.String())
+	}
 }
