@@ -388,11 +388,23 @@ func discsApart(a, b disc) float64 {
 	return math.Max(a.rad, b.rad) + math.Min(a.rad, b.rad)/2 + 2
 }
 
-// spreadApart moves discs that are closer than discsApart up and down,
+// hides says whether disc a or b, drawn on the other, would hide it: only
+// discs of like size do. A disc well smaller than the other (at most
+// 0.6 of its radius: a weight-0 ring on a disc with a fifth of the
+// weight or more) is drawn after it, on top (discs go largest first),
+// and shows there whole at its own place, so it is not moved: a move
+// would misstate its information score to show what already shows.
+func hides(a, b disc) bool {
+	return math.Min(a.rad, b.rad) > 0.6*math.Max(a.rad, b.rad)
+}
+
+// spreadApart moves discs of like size (hides) that are closer than
+// discsApart up and down,
 // the smaller of a pair the more, until every pair is apart, keeping each
-// centre inside the plot and the discs' order up the plot: a disc of the
-// higher information score stays higher (on a tie, the one earlier in
-// order, the larger). It returns the largest move, in SVG units.
+// centre inside the plot and the order up the plot of the discs it
+// moves apart: of two such, the one of the higher information score
+// stays higher (on a tie, the one earlier in order, the larger). It
+// returns the largest move, in SVG units.
 func spreadApart(ds []disc, order []int, f frame) float64 {
 	orig := make([]float64, len(ds))
 	rank := make([]int, len(ds))
@@ -411,7 +423,7 @@ func spreadApart(ds []disc, order []int, f frame) float64 {
 			for j := range i {
 				need := discsApart(ds[i], ds[j])
 				dx := math.Abs(ds[i].x - ds[j].x)
-				if dx >= need {
+				if dx >= need || !hides(ds[i], ds[j]) {
 					continue
 				}
 				up, down := i, j
