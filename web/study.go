@@ -82,7 +82,7 @@ type studyView struct {
 type priorChoice struct {
 	Value, Label string
 	// InSentence is the label as it reads inside a sentence
-	// (priorInSentence): "the agreed prior", "Priya Shah’s fit".
+	// (priorInSentence): "the agreed prior", "Priya Shah's fit".
 	InSentence string
 	Prior      elicit.Beta
 	// Caveat says that a pool's single Beta stands in for the pool only
@@ -97,10 +97,10 @@ type priorChoice struct {
 // label of Parley's own ("Agreed prior", "Equal-weight pool (suggested)")
 // is a name standing alone in a list or a heading; mid-sentence it takes
 // "the" and a small first letter, "the agreed prior". An expert's label
-// is their name, which keeps its capitals: "Priya Shah’s fit".
+// is their name, which keeps its capitals: "Priya Shah's fit".
 func priorInSentence(label string, expert bool) string {
 	if expert {
-		return label + "’s fit"
+		return label + "'s fit"
 	}
 	r, size := utf8.DecodeRuneInString(label)
 	return "the " + string(unicode.ToLower(r)) + label[size:]

@@ -752,7 +752,7 @@ func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
 	}
 	name := html.UnescapeString(opt[1])
 	_, body = h.get(sp + "?prior=0&trials=100")
-	if want := "the median of the predictive under " + name + "’s fit, the prior the study is planned under."; !strings.Contains(html.UnescapeString(body), want) {
+	if want := "the median of the predictive under " + name + "'s fit, the prior the study is planned under."; !strings.Contains(html.UnescapeString(body), want) {
 		t.Errorf("the typical outcome's sentence under an expert's fit lacks %q", want)
 	}
 	for _, c := range []struct{ label, want string }{
