@@ -223,7 +223,11 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	if v.Ready && forms.alpha.OK() {
 		p, err := workshop.ScorePerformance(set, alpha)
 		if err != nil {
-			forms.alpha.Fail(err, nil)
+			// A cut-off refused is the form's error (and the answer's
+			// status); a panel the model cannot score is the page's news.
+			if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Field == "alpha" {
+				forms.alpha.Fail(err, nil)
+			}
 			v.PerfError = s.scoringProblem(err, d)
 		} else {
 			v.Perf = &p

@@ -1156,7 +1156,10 @@ func TestScoringRefusalNamesTheAnswer(t *testing.T) {
 	}
 	want := "Tomas&#39;s answer to calibration question Q1 surge rate: its 95% quantile, " + strconv.FormatFloat(near, 'g', -1, 64) +
 		", " + string(elicit.RuleLogScaleTooClose)
-	_, body := h.get(calibrationPath(ws.ID))
+	res, body := h.get(calibrationPath(ws.ID))
+	if res.StatusCode != http.StatusOK {
+		t.Errorf("the calibration page answers %d: nothing was sent to refuse", res.StatusCode)
+	}
 	if !strings.Contains(body, "The classical model could not score the panel: "+want) {
 		t.Errorf("the calibration page does not name the answer that broke the rule:\n%s", excerpt(body, "could not score"))
 	}
@@ -1165,7 +1168,7 @@ func TestScoringRefusalNamesTheAnswer(t *testing.T) {
 		t.Error("the page calls scores provisional that the model could not give")
 	}
 	before := h.counts(ws.ID)
-	res, body := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scores are in (invented)"}})
+	res, body = h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"scores are in (invented)"}})
 	if res.StatusCode < 400 || res.StatusCode >= 500 || !hasFieldError(body, "scheme") || !strings.Contains(body, want) || strings.Contains(body, "assessments[") {
 		t.Errorf("the weights form: %d, does not name the answer beside the scheme:\n%s", res.StatusCode, excerpt(body, "could not score"))
 	}
