@@ -1208,3 +1208,35 @@ func TestScoringFailureIsLogged(t *testing.T) {
 		t.Errorf("a refusal of the answers was logged: %q", logs.String())
 	}
 }
+
+// The correction form of a calibration question says where its true
+// value stands: "hidden from experts" until it is revealed, "shown to the
+// experts" after (it said hidden for a value the experts had seen). The
+// form offers the true value only while the question has no answers.
+func TestCorrectionFormSaysWhetherTheTrueValueIsShown(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
+		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+	if err := h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	edit := questionPath(ws.ID, q.ID) + "/edit"
+	if err := h.db.SetTrueValue(ctx, q.ID, 420, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	if _, body := h.get(edit); !strings.Contains(body, "True value (hidden from experts)") || strings.Contains(body, "shown to the experts") {
+		t.Error("before the reveal the correction form does not say the true value is hidden")
+	}
+	if err := h.db.SetTrueValue(ctx, q.ID, 420, true, "the inspection report (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	if _, body := h.get(edit); !strings.Contains(body, "True value (shown to the experts)") || strings.Contains(body, "hidden from experts") {
+		t.Error("after the reveal the correction form does not say the true value is shown")
+	}
+}
