@@ -516,7 +516,7 @@ func PerformanceRobustness(set CalibrationSet, questions []Question, experts []E
 	}
 	rep, err := elicit.LeaveOneOut(set.Assessments, set.Realisations, set.Bounds, elicit.ModelOptions{Alpha: alpha, LogScale: set.LogScale}, targets)
 	if err != nil {
-		return Robustness{}, set.placeError(err)
+		return Robustness{}, err
 	}
 	rb := Robustness{Largest: rep.MaxShift, Targets: []int64{}, Full: []TargetPool{}, Rows: []RobustnessRow{}}
 	pools := func(qs [][]float64) []TargetPool {
