@@ -3,6 +3,7 @@ package elicit
 import (
 	"math"
 	"strconv"
+	"strings"
 )
 
 // Planning a study from a Beta prior for a proportion θ: the prior
@@ -430,12 +431,21 @@ func WorthInTrials(ess float64) string {
 // significant figures, as the pages write α and β, so that α + β reads
 // as their sum (Beta(3.456, 55.05) is worth about 58.51 trials); whole
 // from 1000 up, so that a count is not rounded to tens (15366, not
-// 15370); without an exponent below a billion.
+// 15370); without an exponent below a billion, and with one written as
+// the pages write theirs (2e-6 and 1.5e9, not 2e-06 and 1.5e+09).
 func ESSText(v float64) string {
 	if v >= 1000 && v < 1e9 {
 		return strconv.FormatFloat(v, 'f', 0, 64)
 	}
-	return strconv.FormatFloat(v, 'g', 4, 64)
+	s := strconv.FormatFloat(v, 'g', 4, 64)
+	if mant, exp, ok := strings.Cut(s, "e"); ok {
+		sign := ""
+		if exp[0] == '-' {
+			sign = "-"
+		}
+		s = mant + "e" + sign + strings.TrimLeft(exp[1:], "0")
+	}
+	return s
 }
 
 // counted is ESSText(v) with its noun, singular when it reads as 1.

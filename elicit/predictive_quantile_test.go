@@ -67,6 +67,9 @@ func TestWorthInTrialsFigures(t *testing.T) {
 		{999.94, "worth about 999.9 observed trials"},
 		{15366.4, "worth about 15366 observed trials"},
 		{1e6, "worth about 1000000 observed trials"},
+		// Exponents as the pages write them (chart.FormatValue).
+		{2e-6, "worth about 2e-6 observed trials"},
+		{1.5e9, "worth about 1.5e9 observed trials"},
 	} {
 		if got := WorthInTrials(c.ess); got != c.want {
 			t.Errorf("WorthInTrials(%v) = %q, want %q", c.ess, got, c.want)
