@@ -86,15 +86,32 @@ func TestCorrectQuestion(t *testing.T) {
 	if got.Quantity != "first-year pump failure share" || got.Upper != 0.5 {
 		t.Fatalf("after the text correction: %+v", got)
 	}
-	// Bounds in the post are not read once answered; the store would
-	// refuse them anyway (store tests).
-	locked.Set("upper", "0.9")
-	locked.Set("wording", "What share of pumps fail within a year?")
-	if r, _ := h.post(edit, locked); r.StatusCode != http.StatusSeeOther {
-		t.Fatalf("second text correction: %d", r.StatusCode)
+	// A form opened before the first answer and sent after it carries
+	// every field. A bound changed on it is refused by name, and nothing is
+	// saved: the wording beside it had been saved and the bound dropped
+	// without a word.
+	stale := url.Values{}
+	for k, v := range questionValues(got) {
+		stale[k] = v
 	}
-	if got, _ := h.db.Question(context.Background(), q.ID); got.Upper != 0.5 {
-		t.Fatal("a correction after answers changed the bounds")
+	stale.Set("upper", "0.9")
+	stale.Set("wording", "What share of pumps fail within a year?")
+	stale.Set("reason", "Narrower range (invented).")
+	if r, body := h.post(edit, stale); r.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, "Upper bound: "+string(workshop.RuleLockedAfterAnswers)) ||
+		!strings.Contains(body, "What share of pumps fail within a year?") {
+		t.Errorf("a stale full form changing the bound: %d, want 422 naming the upper bound and its rule, the typed wording kept", r.StatusCode)
+	}
+	if got, _ := h.db.Question(context.Background(), q.ID); got.Upper != 0.5 || got.Wording != "What share of pumps fail in their first year?" {
+		t.Fatalf("a correction after answers changed the question: %+v", got)
+	}
+	// The same stale form with the bound as it was saves the wording.
+	stale.Set("upper", "0.5")
+	if r, body := h.post(edit, stale); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("second text correction from a stale form: %d %s", r.StatusCode, body)
+	}
+	if got, _ := h.db.Question(context.Background(), q.ID); got.Upper != 0.5 || got.Wording != "What share of pumps fail within a year?" {
+		t.Fatalf("after the second text correction: %+v", got)
 	}
 	// The record keeps every earlier text in its events.
 	_, body := h.get(wp + "/export.json")

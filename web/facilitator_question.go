@@ -155,6 +155,14 @@ func parseQuestion(f *Form) workshop.Question {
 	return q
 }
 
+// lockedFieldLabels names, as the full question form labels them, the
+// fields that answers fix (workshop.Question.CheckCorrection).
+var lockedFieldLabels = []struct{ name, label string }{
+	{"lower", "Lower bound"}, {"upper", "Upper bound"}, {"format", "How experts answer"},
+	{"preset", "Probabilities"}, {"custom_probs", "Probabilities"}, {"bin_edges", "Bin edges"},
+	{"chips", "Chips per expert"}, {"calibration", "Calibration"}, {"true_value", "True value"},
+}
+
 // questionValues writes q as the question form's values, for correcting it.
 func questionValues(q workshop.Question) map[string][]string {
 	m := map[string][]string{
@@ -216,9 +224,12 @@ func (s *Server) editQuestionForm(w http.ResponseWriter, r *http.Request) {
 }
 
 // editQuestion saves a correction with its required reason. With answers
-// only the wording, quantity and units are read from the form; the rest
-// is the stored question's, and elicit's CheckCorrection (in the store's
-// transaction) refuses any change to it.
+// the form offers only the wording, quantity and units, and the rest is
+// the stored question's; elicit's CheckCorrection (in the store's
+// transaction) refuses any change to it. A form opened before the first
+// answer still carries every field: it is read whole, so that a bound
+// changed on it is refused by name, not dropped while the wording beside
+// it is saved.
 func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 	ws, ed, ok := s.loadEdit(w, r)
 	if !ok || !parseForm(w, r) {
@@ -226,7 +237,7 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	var next workshop.Question
-	if ed.Answers > 0 {
+	if _, whole := r.PostForm["lower"]; ed.Answers > 0 && !whole {
 		next = ed.Question
 		next.Wording = f.Text("wording", input.MaxLongText, true)
 		next.Quantity = f.Text("quantity", input.MaxShortText, true)
