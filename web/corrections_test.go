@@ -3,8 +3,10 @@ package web
 import (
 	"context"
 	"encoding/json"
+	"html"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -408,4 +410,44 @@ func hasAny(s string, subs ...string) bool {
 		}
 	}
 	return false
+}
+
+// The correction form gives a question's bounds back with every figure
+// they have: at four figures an upper bound of 12345 hours came back as
+// 12340, and a correction of the wording alone, sent as the form showed
+// it, moved the bound with it.
+func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Exact bounds (invented)")
+	wp := workshopPath(ws.ID)
+	if r, body := h.post(wp+"/questions", url.Values{"wording": {"How many hours does a pump run before its first fault?"}, "quantity": {"hours to first fault"},
+		"units": {"hours"}, "lower": {"0.125"}, "upper": {"12345"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add question: %d %s", r.StatusCode, body)
+	}
+	qs, _ := h.db.Questions(context.Background(), ws.ID)
+	edit := questionPath(ws.ID, qs[0].ID) + "/edit"
+	_, page := h.get(edit)
+	shown := url.Values{}
+	for _, name := range []string{"wording", "quantity", "units", "lower", "upper", "format", "preset", "custom_probs", "bin_edges", "chips", "true_value"} {
+		m := regexp.MustCompile(`name="` + name + `" value="([^"]*)"`).FindStringSubmatch(page)
+		if m == nil {
+			continue
+		}
+		shown.Set(name, html.UnescapeString(m[1]))
+	}
+	if shown.Get("upper") != "12345" || shown.Get("lower") != "0.125" {
+		t.Errorf("the correction form shows the bounds as %q and %q, want 12345 and 0.125", shown.Get("lower"), shown.Get("upper"))
+	}
+	shown.Set("format", "quantiles")
+	shown.Set("preset", "p05_50_95")
+	shown.Set("wording", "How many hours does a pump run before its first fault of any kind?")
+	shown.Set("reason", "Wording only (invented).")
+	if r, body := h.post(edit, shown); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("wording correction: %d %s", r.StatusCode, body)
+	}
+	got, _ := h.db.Question(context.Background(), qs[0].ID)
+	if got.Upper != 12345 || got.Lower != 0.125 || !strings.Contains(got.Wording, "of any kind") {
+		t.Errorf("after correcting the wording alone the question is %+v; want its bounds 0.125 and 12345 kept", got)
+	}
 }

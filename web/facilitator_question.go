@@ -167,7 +167,7 @@ var lockedFieldLabels = []struct{ name, label string }{
 func questionValues(q workshop.Question) map[string][]string {
 	m := map[string][]string{
 		"wording": {q.Wording}, "quantity": {q.Quantity}, "units": {q.Units},
-		"lower": {fv(q.Lower)}, "upper": {fv(q.Upper)}, "format": {string(q.Format)},
+		"lower": {exact(q.Lower)}, "upper": {exact(q.Upper)}, "format": {string(q.Format)},
 		"preset": {"custom"}, "custom_probs": {joinFloats(q.Probs)},
 		"bin_edges": {joinFloats(q.BinEdges)}, "chips": {strconv.Itoa(q.Chips)},
 	}
@@ -183,7 +183,7 @@ func questionValues(q workshop.Question) map[string][]string {
 		m["calibration"] = []string{"on"}
 	}
 	if q.TrueValue != nil {
-		m["true_value"] = []string{strconv.FormatFloat(*q.TrueValue, 'g', -1, 64)}
+		m["true_value"] = []string{exact(*q.TrueValue)}
 	}
 	return m
 }
@@ -191,10 +191,15 @@ func questionValues(q workshop.Question) map[string][]string {
 func joinFloats(xs []float64) string {
 	parts := make([]string, len(xs))
 	for i, x := range xs {
-		parts[i] = strconv.FormatFloat(x, 'g', -1, 64)
+		parts[i] = exact(x)
 	}
 	return strings.Join(parts, ", ")
 }
+
+// exact writes a stored number back into a form with every figure it
+// has, so that sending the form unchanged changes nothing: at four
+// figures a bound of 12345 came back as 12340.
+func exact(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
 
 // loadEdit reads the question to correct and its number of answers.
 func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (workshop.Workshop, *questionEdit, bool) {
