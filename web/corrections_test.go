@@ -183,8 +183,15 @@ func TestReopenRound(t *testing.T) {
 	if _, body := h.get(wp); !strings.Contains(body, "Reopen round 1") {
 		t.Fatal("the overview of a closed round does not offer to reopen it")
 	}
-	if r, _ := h.post(wp+"/round", url.Values{"action": {"reopen"}}); r.StatusCode != http.StatusUnprocessableEntity {
+	r, body := h.post(wp+"/round", url.Values{"action": {"reopen"}})
+	if r.StatusCode != http.StatusUnprocessableEntity {
 		t.Fatalf("reopen without a reason: %d", r.StatusCode)
+	}
+	// The refusal's "Nothing was saved" stands in the reopening form, not
+	// above the next round's reason, which was not what was sent.
+	reopen, summary := strings.Index(body, "by mistake?"), strings.Index(body, "Nothing was saved")
+	if summary < 0 || reopen < 0 || summary < reopen || strings.Count(body, "Nothing was saved") != 1 {
+		t.Errorf("reopening without a reason: the refusal's summary is at %d, the reopening form at %d; want it once, in that form", summary, reopen)
 	}
 	if r, _ := h.post(wp+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"Closed by mistake (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("reopen: %d", r.StatusCode)
