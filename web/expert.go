@@ -334,6 +334,15 @@ func previewInviteText(format workshop.AnswerFormat, name string) string {
 	return "Enter " + whose + " values"
 }
 
+// previewInviteEnd ends previewInvite's sentence: while saving is closed
+// the fit can still be tried, and the sentence does not promise a save.
+func previewInviteEnd(open bool) string {
+	if open {
+		return " before you save."
+	}
+	return ". Saving is closed for now: nothing tried here is kept."
+}
+
 // answerValues writes a saved answer back as form values, for
 // pre-filling, as the expert typed it.
 func answerValues(q workshop.Question, a workshop.Answer) map[string]string {

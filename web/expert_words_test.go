@@ -472,3 +472,30 @@ func TestPointWrittenAsABoundIsSaid(t *testing.T) {
 		}
 	}
 }
+
+// While a round is closed an expert without an answer may still try the
+// fit, but the page does not ask for values "before you save": saving is
+// closed, and it says so. The facilitator's entry page says the same.
+func TestClosedRoundDoesNotInviteASave(t *testing.T) {
+	g := newExpertRig(t)
+	if err := g.db.SetRound(context.Background(), g.ws.ID, 1, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	_, page := g.get(g.qpath(0, g.q))
+	if strings.Contains(page, "before you save") || !strings.Contains(page, "Saving is closed for now: nothing tried here is kept.") {
+		t.Errorf("in a closed round the question page invites a save:\n%s", page)
+	}
+	if err := g.db.SetRound(context.Background(), g.ws.ID, 2, true, "second round (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, "before you save") || strings.Contains(page, "Saving is closed for now") {
+		t.Errorf("in an open round the question page does not invite a save:\n%s", page)
+	}
+	h, ws, qs, es, _ := seeded(t)
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	if _, page := h.get(questionPath(ws.ID, qs[0].ID) + "/enter/" + strconv.FormatInt(es[2].ID, 10)); strings.Contains(page, "before you save") || !strings.Contains(page, "Saving is closed for now") {
+		t.Errorf("in a closed round the entry page invites a save:\n%s", page)
+	}
+}

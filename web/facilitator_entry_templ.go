@@ -277,7 +277,7 @@ func entryPageView(v entryView) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		if v.Form.Preview == nil {
-			templ_7745c5c3_Err = previewInvite(v.Form.Form.Format, v.Expert.Name).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = previewInvite(v.Form.Form.Format, v.Expert.Name, v.Form.Open && !v.Form.Frozen).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
