@@ -594,3 +594,21 @@ func TestProbabilitiesAQuestionMayAskHaveTheirOwnLabels(t *testing.T) {
 		}
 	}
 }
+
+// A refused sheet is said at the top of the page, above the columns'
+// help: below it the refusal lay under the fold on a projector and on a
+// phone, and the page looked as it had before the sheet was sent.
+func TestSheetRefusalIsSaidFirst(t *testing.T) {
+	g := newSheetRig(t)
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {"expert,question,q05,q50,q95\nNobody Known (invented),Q1,0.01,0.04,0.1\n"}, "channel": {"message"}})
+	if r.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("a sheet naming no expert: %d", r.StatusCode)
+	}
+	refusal, help := strings.Index(body, "row 2, column expert"), strings.Index(body, "This workshop's columns")
+	if refusal < 0 || help < 0 || refusal > help {
+		t.Errorf("the refusal is at %d, the columns' help at %d: want the refusal first", refusal, help)
+	}
+	if n := strings.Count(body, "row 2, column expert"); n != 1 {
+		t.Errorf("the refusal is said %d times", n)
+	}
+}
