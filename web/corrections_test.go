@@ -458,3 +458,34 @@ func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
 		t.Errorf("after correcting the wording alone the question is %+v; want its bounds 0.125 and 12345 kept", got)
 	}
 }
+
+// An archived workshop's overview offers no form that the archive would
+// refuse: it offered to edit the details, open another round or reopen
+// the last, add an expert, and revoke or reissue each expert's link, and
+// each of them answered "This workshop is archived". Bringing it back is
+// what it offers, and the rounds card says so.
+func TestArchivedOverviewOffersOnlyBringingItBack(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	wp := workshopPath(ws.ID)
+	if r, _ := h.post(wp+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Finished (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d", r.StatusCode)
+	}
+	_, body := h.get(wp)
+	for _, refused := range []string{
+		`action="` + wp + `/edit"`, `action="` + wp + `/round"`, `action="` + wp + `/experts"`,
+		`action="` + expertActionPath(ws.ID, es[0].ID, "revoke") + `"`, `action="` + expertActionPath(ws.ID, es[0].ID, "reissue") + `"`,
+	} {
+		if strings.Contains(body, refused) {
+			t.Errorf("the archived workshop's overview offers a form the archive refuses: %s", refused)
+		}
+	}
+	if !strings.Contains(body, `action="`+wp+`/archive"`) || !strings.Contains(body, "bring the workshop back first") {
+		t.Error("the archived workshop's overview does not offer to bring it back")
+	}
+	if r, _ := h.post(wp+"/archive", url.Values{"action": {"restore"}, "archive_reason": {"One more round (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("restore: %d", r.StatusCode)
+	}
+	if _, body := h.get(wp); !strings.Contains(body, `action="`+wp+`/round"`) || !strings.Contains(body, `action="`+wp+`/experts"`) {
+		t.Error("brought back, the overview does not offer its forms again")
+	}
+}
