@@ -465,7 +465,7 @@ func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
 // each of them answered "This workshop is archived". Bringing it back is
 // what it offers, and the rounds card says so.
 func TestArchivedOverviewOffersOnlyBringingItBack(t *testing.T) {
-	h, ws, _, es, _ := seeded(t)
+	h, ws, qs, es, _ := seeded(t)
 	wp := workshopPath(ws.ID)
 	if r, _ := h.post(wp+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Finished (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("archive: %d", r.StatusCode)
@@ -481,6 +481,14 @@ func TestArchivedOverviewOffersOnlyBringingItBack(t *testing.T) {
 	}
 	if !strings.Contains(body, `action="`+wp+`/archive"`) || !strings.Contains(body, "bring the workshop back first") {
 		t.Error("the archived workshop's overview does not offer to bring it back")
+	}
+	// Nor do its question panels (weights, the agreed prior) and its
+	// calibration page (true values, scales, weights).
+	for _, page := range []string{questionPath(ws.ID, qs[0].ID), calibrationPath(ws.ID)} {
+		_, body := h.get(page)
+		if m := regexp.MustCompile(`<form method="post" action="`+regexp.QuoteMeta(wp)+`/[^"]*"`).FindAllString(body, -1); len(m) > 0 {
+			t.Errorf("the archived workshop's %s offers forms the archive refuses: %q", page, m)
+		}
 	}
 	if r, _ := h.post(wp+"/archive", url.Values{"action": {"restore"}, "archive_reason": {"One more round (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("restore: %d", r.StatusCode)
