@@ -497,3 +497,33 @@ func TestArchivedOverviewOffersOnlyBringingItBack(t *testing.T) {
 		t.Error("brought back, the overview does not offer its forms again")
 	}
 }
+
+// A correction saved, and a question brought back, are said on the panel
+// the form leads to: it showed the new wording without a word that it
+// had been saved, and a question brought back only lost its banner.
+func TestPanelSaysACorrectionWasSaved(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := qs[0]
+	vals := url.Values{"wording": {q.Wording + " (Corrected, invented.)"}, "quantity": {q.Quantity}, "units": {q.Units}, "reason": {"Clearer wording (invented)."}}
+	r, _ := h.post(questionPath(ws.ID, q.ID)+"/edit", vals)
+	if r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("correction: %d", r.StatusCode)
+	}
+	if _, page := h.get(r.Header.Get("Location")); !strings.Contains(page, "Correction saved.") {
+		t.Error("the panel after a correction does not say it was saved")
+	}
+	if _, page := h.get(questionPath(ws.ID, q.ID)); strings.Contains(page, "Correction saved.") {
+		t.Error("the panel says a correction was saved when opened on its own")
+	}
+	retire := questionPath(ws.ID, q.ID) + "/retire"
+	if r, _ := h.post(retire, url.Values{"action": {"retire"}, "retire_reason": {"Duplicate (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("retire: %d", r.StatusCode)
+	}
+	r, _ = h.post(retire, url.Values{"action": {"restore"}, "retire_reason": {"Kept after all (invented)."}})
+	if r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("restore: %d", r.StatusCode)
+	}
+	if _, page := h.get(r.Header.Get("Location")); !strings.Contains(page, "The question is back: experts see it again") {
+		t.Error("the panel after bringing the question back does not say so")
+	}
+}

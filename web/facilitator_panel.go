@@ -217,6 +217,9 @@ type panelView struct {
 	Recorded     recordedData // study data the agreed prior is updated with
 	// Sheets says which answer sheet and row a judgement came from.
 	Sheets map[int64]workshop.SheetSource
+	// Done says what the form that led here saved: "corrected" or
+	// "restored" (the question's correction, or bringing it back), or "".
+	Done string
 }
 
 // reasoned are the question's revisions that carry a reason, oldest first.
@@ -298,6 +301,9 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	}
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
+	if status == http.StatusOK {
+		v.Done = r.URL.Query().Get("done")
+	}
 	v.Strength = panelStrength(d)
 	if v.Recorded, err = s.recordedFor(r.Context(), ws, q); err != nil {
 		s.fail(w, r, err)

@@ -269,7 +269,7 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 			questionFormPage(questionForm{Workshop: ws, Form: f, Edit: ed}))
 		return
 	}
-	http.Redirect(w, r, questionPath(ws.ID, ed.Question.ID), http.StatusSeeOther)
+	http.Redirect(w, r, questionPath(ws.ID, ed.Question.ID)+"?done=corrected", http.StatusSeeOther)
 }
 
 // retireQuestion retires a question or brings it back (action=retire or
@@ -298,5 +298,9 @@ func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
 		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{retire: f})
 		return
 	}
-	http.Redirect(w, r, questionPath(ws.ID, q.ID), http.StatusSeeOther)
+	to := questionPath(ws.ID, q.ID)
+	if action == "restore" {
+		to += "?done=restored"
+	}
+	http.Redirect(w, r, to, http.StatusSeeOther)
 }
