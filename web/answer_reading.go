@@ -31,8 +31,9 @@ const (
 // readAnswer parses the posted form into the question's format, then
 // lets elicit judge it: every field's problem at once (Problems), then
 // the fit's own rules (Fit). Messages land beside their fields, written
-// for the expert.
-func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool) {
+// for the expert; sp names whose values they are where the facilitator
+// types them ("Priya Raman's 5% value", not "your 5% value").
+func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elicit.Fit, bool) {
 	// Errors of other fields (a reason, a channel) do not stop the
 	// answer's own rules from being checked: every error shows at once.
 	before := len(f.Errors)
@@ -42,7 +43,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 	value := func(name string) float64 {
 		v, pct, err := workshop.ParseAnswerNumber(name, f.Value(name), q, asPercent)
 		if err != nil {
-			f.set(name, expertWords(q, f, err))
+			f.set(name, expertWords(q, f, err, sp))
 		}
 		count++
 		if pct {
@@ -57,7 +58,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 		a.Best = value("best")
 		c, err := workshop.ParseConfidence(f.Value("confidence"))
 		if err != nil {
-			f.set("confidence", expertWords(q, f, err))
+			f.set("confidence", expertWords(q, f, err, sp))
 		}
 		a.Confidence = c
 	case workshop.FormatChips:
@@ -69,7 +70,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 			}
 			n, err := input.Whole(name, f.Value(name), 0, workshop.MaxChips)
 			if err != nil {
-				f.set(name, expertWords(q, f, err))
+				f.set(name, expertWords(q, f, err, sp))
 			}
 			a.Counts[i] = n
 		}
@@ -89,7 +90,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 			if unread && (f.Error(field) != "" || f.Error(comparedWith(p.Field)) != "" || field == "") {
 				continue
 			}
-			f.set(field, expertWords(q, f, p))
+			f.set(field, expertWords(q, f, p, sp))
 		}
 		return a, elicit.Fit{}, false
 	}
@@ -114,7 +115,7 @@ func readAnswer(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, bool
 			// reads what to change.
 			f.set("", "These values lie too close together, or too close to a bound, for any distribution Parley can draw to match them. Please spread them out or move them away from the bounds.")
 		default:
-			f.set(field, expertWords(q, f, err))
+			f.set(field, expertWords(q, f, err, sp))
 		}
 		return a, fit, false
 	}
@@ -161,7 +162,7 @@ func answerField(q workshop.Question, field string) string {
 // expertWords says what is wrong with a field in words for the expert,
 // quoting what they typed; no rule names, interval notation or
 // exponents.
-func expertWords(q workshop.Question, f *Form, err error) string {
+func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
 		return "Parley could not read this. Please check it."
@@ -196,7 +197,7 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 		}
 		return msg
 	case elicit.RuleValueIncreasing:
-		return "Must be larger than " + previousLabel(q, ie.Field) + "."
+		return "Must be larger than " + previousLabel(q, ie.Field, sp) + "."
 	case elicit.RuleProbOpen:
 		if ie.Field == "confidence" {
 			return "Must be more than 0% and less than 100%; you typed " + typed + "."
@@ -220,7 +221,7 @@ func expertWords(q workshop.Question, f *Form, err error) string {
 	case elicit.RuleValueNearBound:
 		return "This lies too close to " + lo + " or " + hi + " for Parley to draw a curve through it; you typed " + typed + ". Please move it a little further from the end of the range."
 	case elicit.RuleValuesTooClose:
-		return "This is so close to " + previousLabel(q, ie.Field) + " that the two cannot be told apart; you typed " + typed + ". Please spread them out."
+		return "This is so close to " + previousLabel(q, ie.Field, sp) + " that the two cannot be told apart; you typed " + typed + ". Please spread them out."
 	}
 	// The fit's own rules (values too close together, or too close to a
 	// bound, for a curve to mean anything).
@@ -247,18 +248,19 @@ func readReason(f *Form) string {
 }
 
 // previousLabel names the value a field must exceed, as the form labels it.
-func previousLabel(q workshop.Question, field string) string {
+func previousLabel(q workshop.Question, field string, sp speaker) string {
+	whose := sp.pick("your", "%s's")
 	switch field {
 	case "best":
-		return "your lowest plausible value"
+		return whose + " lowest plausible value"
 	case "highest":
-		return "your best estimate"
+		return whose + " best estimate"
 	}
 	var i int
 	if _, err := fmt.Sscanf(field, "values[%d]", &i); err == nil && i > 0 && i <= len(q.Probs) {
 		// Its name, not "the value above it": above on the form is below
 		// in size, and "larger than the value above it" reads as a riddle.
-		return "your " + chart.FormatPercent(q.Probs[i-1]) + " value"
+		return whose + " " + chart.FormatPercent(q.Probs[i-1]) + " value"
 	}
 	return "the value before it"
 }

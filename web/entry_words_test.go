@@ -140,3 +140,22 @@ func TestEntryFormNamesTheExpert(t *testing.T) {
 		t.Error("the expert's own form lacks \"Your median\"")
 	}
 }
+
+// A value refused on the facilitator's entry page names whose value it
+// must exceed, as the read-backs name the expert: "Must be larger than
+// your 5% value" spoke to the facilitator as if the values were theirs.
+// On the expert's own page it stays "your".
+func TestEntryRefusalNamesTheExpertsValue(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	priya := es[2]
+	form := url.Values{"channel": {"phone"}, "values[0]": {"0.05"}, "values[1]": {"0.03"}, "values[2]": {"0.12"}}
+	r, body := h.post(entryPath(ws.ID, qs[0].ID, priya.ID)+"/save", form)
+	body = html.UnescapeString(body)
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "Must be larger than Priya Raman's 5% value.") || strings.Contains(body, "your 5% value") {
+		t.Errorf("a decreasing entry: %d, and the refusal does not name Priya Raman's 5%% value", r.StatusCode)
+	}
+	r, body = h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", form)
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(html.UnescapeString(body), "Must be larger than your 5% value.") {
+		t.Errorf("a decreasing answer on the expert's page: %d, and the refusal does not say \"your 5%% value\"", r.StatusCode)
+	}
+}

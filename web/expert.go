@@ -560,7 +560,7 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	f := newForm(r.PostForm)
-	a, fit, ok := readAnswer(sc.question, f)
+	a, fit, ok := readAnswer(sc.question, f, speaker{})
 	fragment := r.URL.Query().Get("fragment") == "1"
 	status := http.StatusOK
 	var p *previewView
@@ -595,7 +595,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := readReason(f)
-	a, fit, ok := readAnswer(sc.question, f)
+	a, fit, ok := readAnswer(sc.question, f, speaker{})
 	// The page is drawn again only when the save is refused; a saved
 	// answer redirects to the question's page.
 	again := func(status int, closed, unsaved string, fit *elicit.Fit) {
@@ -682,7 +682,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 			}
 			sc.question = q
 			f = newForm(r.PostForm)
-			_, nf, nok := readAnswer(sc.question, f)
+			_, nf, nok := readAnswer(sc.question, f, speaker{})
 			var fresh *elicit.Fit
 			if nok {
 				fresh = &nf

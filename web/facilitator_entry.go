@@ -165,7 +165,7 @@ func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int,
 }
 
 // readEntry parses the form as the expert's page does, and the channel.
-func readEntry(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, workshop.Channel, bool) {
+func readEntry(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elicit.Fit, workshop.Channel, bool) {
 	names := make([]string, len(workshop.Channels))
 	for i, c := range workshop.Channels {
 		names[i] = string(c)
@@ -176,7 +176,7 @@ func readEntry(q workshop.Question, f *Form) (workshop.Answer, elicit.Fit, works
 	} else {
 		channel = workshop.Channel(f.Choice("channel", "", names...))
 	}
-	a, fit, ok := readAnswer(q, f)
+	a, fit, ok := readAnswer(q, f, sp)
 	return a, fit, channel, ok && f.OK()
 }
 
@@ -187,7 +187,7 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	// The channel is asked for at the save; the preview draws the values.
-	a, fit, ok := readAnswer(sc.q, f)
+	a, fit, ok := readAnswer(sc.q, f, sc.speaker())
 	ok = ok && f.OK()
 	status := http.StatusOK
 	var p *previewView
@@ -231,7 +231,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", input.MaxLongText, false)
-	a, fit, channel, ok := readEntry(sc.q, f)
+	a, fit, channel, ok := readEntry(sc.q, f, sc.speaker())
 	if sc.q.Frozen() {
 		s.entryAgain(w, r, sc, f, http.StatusConflict, "The true value of this question has been shown, so its answers are final and nothing was saved.", nil)
 		return
@@ -265,7 +265,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 			sc.q = q
 			f = newForm(r.PostForm)
 			var p *previewView
-			if a, fit, _, ok := readEntry(sc.q, f); ok {
+			if a, fit, _, ok := readEntry(sc.q, f, sc.speaker()); ok {
 				p = newPreviewPtr(sc.q, fit, a.Percent, sc.speaker())
 			}
 			s.entryAgain(w, r, sc, f, http.StatusConflict, questionChangedForFacilitator, p)

@@ -56,7 +56,7 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 			f.set("source", st.RepError)
 		}
 	case workshop.PriorFromConsensus:
-		a, fit, ok := readAnswer(q, f)
+		a, fit, ok := readAnswer(q, f, speaker{Name: "the panel"})
 		if ok {
 			p.Dist, p.Consensus = fit.Dist, &a
 		}
