@@ -1,6 +1,7 @@
 package e2e
 
 import (
+	"context"
 	"strconv"
 	"strings"
 	"testing"
@@ -171,6 +172,31 @@ func TestInlineFormButtonsSitLevelWithTheirField(t *testing.T) {
 			if g < 0 || g > 2 {
 				t.Errorf("%s: inline form %d's button ends %.1f px from its field's box", page, i, g)
 			}
+		}
+	}
+}
+
+// TestRoundsCardKeepsItsButtonApart: with round 1 of the invented demo
+// closed, the "Open round 2" button sat against the "Closed round 1 by
+// mistake?" line under it, at the projector and on a phone, so that the
+// line read as the button's caption. They stand apart now.
+func TestRoundsCardKeepsItsButtonApart(t *testing.T) {
+	site, d := startDemo(t)
+	if err := site.DB.SetRound(context.Background(), d.w.ID, 1, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	for _, w := range []int64{1366, 390} {
+		fac.viewport(w, 900, w < 600)
+		fac.open(d.url + "/")
+		gap := eval[float64](fac, "the gap under the round's button", `(() => {
+			const b = document.querySelector("#rounds form button[type=submit]"), s = document.querySelector("#rounds details summary");
+			return b && s ? s.getBoundingClientRect().top - b.getBoundingClientRect().bottom : -1;
+		})()`)
+		if gap < 12 {
+			t.Errorf("at %d px the rounds card's button ends %.1f px above the line under it; want 12 px or more", w, gap)
 		}
 	}
 }
