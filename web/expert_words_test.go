@@ -475,7 +475,8 @@ func TestPointWrittenAsABoundIsSaid(t *testing.T) {
 
 // While a round is closed an expert without an answer may still try the
 // fit, but the page does not ask for values "before you save": saving is
-// closed, and it says so. The facilitator's entry page says the same.
+// closed, and it says so; nor does it offer "your answers" to read when
+// there are none. The facilitator's entry page says the same of the save.
 func TestClosedRoundDoesNotInviteASave(t *testing.T) {
 	g := newExpertRig(t)
 	if err := g.db.SetRound(context.Background(), g.ws.ID, 1, false, ""); err != nil {
@@ -484,6 +485,10 @@ func TestClosedRoundDoesNotInviteASave(t *testing.T) {
 	_, page := g.get(g.qpath(0, g.q))
 	if strings.Contains(page, "before you save") || !strings.Contains(page, "Saving is closed for now: nothing tried here is kept.") {
 		t.Errorf("in a closed round the question page invites a save:\n%s", page)
+	}
+	// Nor does it offer "your answers" to read when there are none.
+	if strings.Contains(page, "You can read your answers") || !strings.Contains(page, "You have not answered this question yet; you can when the facilitator opens the next round.") {
+		t.Errorf("in a closed round the page of an unanswered question offers answers to read:\n%s", page)
 	}
 	if err := g.db.SetRound(context.Background(), g.ws.ID, 2, true, "second round (invented)"); err != nil {
 		t.Fatal(err)
