@@ -59,6 +59,15 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 		}
 		fac.sees("upload page", "This workshop's columns", "q25,q50,q75", "expert,question,q05,q50,q95,q25,q75,reason")
 		fits(t, fac, "upload page", width)
+		// The header to start from breaks between its columns, never
+		// inside a name: at 390 px it read "re" over "ason".
+		if cut := eval[[]string](fac, "the header's columns", `Array.from(document.querySelectorAll("#sheet-header code")).flatMap(c => Array.from(c.childNodes)).filter(n => n.nodeType === Node.TEXT_NODE && n.textContent.trim()).flatMap(n => n.textContent.split(",").map((w, i, all) => ({n, w, at: all.slice(0, i).join(",").length + (i ? 1 : 0)}))).filter(({n, w, at}) => {
+			if (!w) return false;
+			const r = document.createRange(); r.setStart(n, at); r.setEnd(n, at + w.length);
+			return new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size > 1;
+		}).map(({w}) => w)`); len(cut) > 0 {
+			t.Errorf("upload page at %d px: the header breaks inside %q", width, cut)
+		}
 		shots.take(fac, "sheet-upload-"+strconv.FormatInt(width, 10))
 		// Its preview of a row that follows Ines Varga's own answer.
 		fac.fill(`form[enctype="multipart/form-data"]`, "sheet", "expert,question,q05,q50,q95,reason\nInes Varga,Q1,0.01,0.04,0.1,From her paper form of Monday (invented).\n")

@@ -8,6 +8,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/a-h/templ"
+
 	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -80,6 +82,17 @@ func sheetHeader(qs []workshop.Question) string {
 		}
 	}
 	return strings.Join(append(cols, "reason"), ",")
+}
+
+// sheetHeaderHTML is sheetHeader as HTML with a line break allowed after
+// each comma (<wbr>, which a copy leaves out), so that on a phone the
+// header wraps between its columns: it broke "reason" as "re" over "ason".
+func sheetHeaderHTML(qs []workshop.Question) string {
+	cols := strings.SplitAfter(sheetHeader(qs), ",")
+	for i, c := range cols {
+		cols[i] = templ.EscapeString(c)
+	}
+	return strings.Join(cols, "<wbr>")
 }
 
 func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
