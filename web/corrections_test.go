@@ -490,6 +490,19 @@ func TestArchivedOverviewOffersOnlyBringingItBack(t *testing.T) {
 			t.Errorf("the archived workshop's %s offers forms the archive refuses: %q", page, m)
 		}
 	}
+	// What the hidden forms said is still read: the calibration page says
+	// each calibration question's scale, which only the scale form's
+	// heading had said.
+	_, body = h.get(calibrationPath(ws.ID))
+	seeds := 0
+	for _, q := range qs {
+		if q.Calibration {
+			seeds++
+		}
+	}
+	if n := strings.Count(body, "Information scored on the"); seeds == 0 || n != seeds {
+		t.Errorf("the archived calibration page says the scale of %d of its %d calibration questions", n, seeds)
+	}
 	if r, _ := h.post(wp+"/archive", url.Values{"action": {"restore"}, "archive_reason": {"One more round (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("restore: %d", r.StatusCode)
 	}
