@@ -35,6 +35,10 @@ type workshopView struct {
 	SheetSaved string
 }
 
+// reopenSent is whether the round form sent was the reopening's: its
+// refusal is said there, not above the next round's reason.
+func (v workshopView) reopenSent() bool { return v.RoundForm.Value("action") == "reopen" }
+
 // issuedLink is a freshly issued private link; only its hash is stored.
 // Gone is set when the link can no longer be shown (issuedFor passed, or
 // the server restarted).

@@ -193,3 +193,29 @@ func TestSaveOnAFullDisk(t *testing.T) {
 		t.Error("something was saved")
 	}
 }
+
+// A reopening that fails to save says so in the reopening form, shown
+// open with the typed reason: the refusal stood above the next round's
+// reason, which was not what was sent, and the reason lay folded away.
+func TestReopenOnAFullDiskIsSaidInItsForm(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	if err := h.db.SetRound(context.Background(), ws.ID, ws.Round, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	post := serveOn(t, fullDisk{h.db})
+	secret, err := IssueFacilitatorSecret(context.Background(), h.db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if code, _ := post("/signin", url.Values{"secret": {secret}}); code != http.StatusSeeOther {
+		t.Fatalf("sign in: %d", code)
+	}
+	code, page := post(workshopPath(ws.ID)+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"Typed reopen reason (invented)"}})
+	if code != http.StatusServiceUnavailable {
+		t.Fatalf("reopen on a full disk: %d, want 503", code)
+	}
+	reopen, said := strings.Index(page, `<details class="no-print" open>`), strings.Index(page, notSavedForFacilitator)
+	if reopen < 0 || said < reopen || strings.Count(page, notSavedForFacilitator) != 1 || !strings.Contains(page, "Typed reopen reason (invented)") {
+		t.Errorf("the failed reopening is said at %d, the open reopening form at %d; want it once, in that form, with the typed reason", said, reopen)
+	}
+}
