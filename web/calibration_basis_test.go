@@ -306,6 +306,29 @@ func TestQuestionExportUnderPerformanceWeights(t *testing.T) {
 	if len(rec.WeightHistory) != 1 || rec.WeightHistory[0].Basis == nil || len(rec.Revisions) != 4+12+1 {
 		t.Fatalf("question record: %d sets, %d revisions; want the basis and 4 + 12 + 1 revisions", len(rec.WeightHistory), len(rec.Revisions))
 	}
+	// One question's record as Parley wrote it before it kept that
+	// answer still reads, and imports: it has no chain and none of the
+	// seed's events, and its answers up to the freeze are those scored.
+	scored := map[int64]bool{}
+	for _, a := range rec.WeightHistory[0].Basis.CalibrationAnswers {
+		scored[a.RevisionID] = true
+	}
+	earlier := rec
+	earlier.Revisions = nil
+	for _, rv := range rec.Revisions {
+		if rv.QuestionID == p.targets[0].ID || scored[rv.ID] {
+			earlier.Revisions = append(earlier.Revisions, rv)
+		}
+	}
+	var buf strings.Builder
+	if err := earlier.WriteJSON(&buf); err != nil || len(earlier.Revisions) != 4+12 {
+		t.Fatalf("the earlier record: %v, %d revisions", err, len(earlier.Revisions))
+	}
+	if back, err := record.Parse(strings.NewReader(buf.String())); err != nil {
+		t.Errorf("one question's record from before its seed's freeze was kept does not read: %v", err)
+	} else if _, err := h.db.Import(context.Background(), back); err != nil {
+		t.Errorf("one question's record from before its seed's freeze was kept does not import: %v", err)
+	}
 	res, csv := h.get(qp + "/export.csv")
 	if rows := strings.Count(strings.TrimSpace(csv), "\n"); res.StatusCode != http.StatusOK || rows != 4 {
 		t.Fatalf("question CSV: %d, %d rows; want the target's 4", res.StatusCode, rows)

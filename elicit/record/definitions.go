@@ -163,6 +163,19 @@ func (r Record) checkFreeze(i int, q workshop.Question) error {
 	return nil
 }
 
+// revealCarriesFreeze is whether a reveal of question id in the record
+// carries the freeze it set.
+func (r Record) revealCarriesFreeze(id int64) bool {
+	for _, e := range r.Events {
+		var d workshop.Reveal
+		if e.QuestionID == id && e.Kind == workshop.EventTruthRevealed &&
+			json.Unmarshal([]byte(e.Detail), &d) == nil && d.RevealedThrough != nil {
+			return true
+		}
+	}
+	return false
+}
+
 func timeText(t *time.Time) string {
 	if t == nil {
 		return "none"

@@ -187,8 +187,16 @@ func (r Record) validate(fits []elicit.Fit) error {
 	// A question's freeze names one of its own revisions, the last saved
 	// when its true value was revealed, as the store sets it: any other
 	// number would be read back, and exported again, as another freeze.
+	// One question's record written before Parley kept that revision left
+	// it out for a calibration question kept as the weights' evidence; it
+	// has no chain and none of that question's events, and still reads:
+	// an import freezes the same answers, the question's up to the freeze.
 	for i, q := range r.Questions {
-		if id := q.RevealedThrough; id > 0 && pooled[id].question != q.ID {
+		id := q.RevealedThrough
+		if id <= 0 {
+			continue
+		}
+		if p, held := pooled[id]; p.question != q.ID && (held || r.Chain != nil || r.revealCarriesFreeze(q.ID)) {
 			return inputErr(fmt.Sprintf("questions[%d].revealed_through", i), elicit.RuleUnknown,
 				"no revision %d on question %d in the record", id, q.ID)
 		}
