@@ -504,3 +504,42 @@ func TestClosedRoundDoesNotInviteASave(t *testing.T) {
 		t.Errorf("in a closed round the entry page invites a save:\n%s", page)
 	}
 }
+
+// A calibration question revealed while the round is closed, which the
+// expert never answered, offers no answers to read and no answer in the
+// next round: the page said "You can read your answers" above "You gave
+// no answer to this question before then".
+func TestRevealedUnansweredQuestionOffersNothingToRead(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	ctx := context.Background()
+	revs, _ := h.db.Revisions(ctx, ws.ID)
+	for _, q := range qs {
+		if !q.Calibration || q.TrueValue == nil {
+			continue
+		}
+		for i, e := range es {
+			answered := false
+			for _, rv := range revs {
+				answered = answered || (rv.QuestionID == q.ID && rv.ExpertID == e.ID)
+			}
+			if answered || links[i].Name != e.Name {
+				continue
+			}
+			if err := h.db.SetTrueValue(ctx, q.ID, *q.TrueValue, true, "shown to the panel (invented)"); err != nil {
+				t.Fatal(err)
+			}
+			_, page := h.get(links[i].Path + "q/" + strconv.FormatInt(q.ID, 10))
+			if !strings.Contains(page, "You gave no answer to this question before then") {
+				t.Fatalf("the revealed question's page does not say the expert gave no answer:\n%s", page)
+			}
+			if strings.Contains(page, "You can read your answers") || strings.Contains(page, "you can when the facilitator opens the next round") {
+				t.Errorf("the page of a revealed question the expert never answered offers answers to read or a later answer:\n%s", page)
+			}
+			return
+		}
+	}
+	t.Fatal("the demo has no calibration question an expert left unanswered")
+}
