@@ -187,3 +187,21 @@ func TestHistoryPageHasOneHeading(t *testing.T) {
 		t.Error("the history page lacks its heading or its table")
 	}
 }
+
+// An archived workshop's pages do not lead to what the archive refuses:
+// a large panel's link to its reasons offers to read them, not to
+// withhold them, and a calibration page without calibration questions
+// does not send the facilitator to the question form to add one.
+func TestArchivedPagesLeadToNothingRefused(t *testing.T) {
+	h, ws, q, _ := seedLargePanel(t, 40)
+	wp := workshopPath(ws.ID)
+	if r, _ := h.post(wp+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Finished (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d", r.StatusCode)
+	}
+	if _, page := h.get(questionPath(ws.ID, q.ID)); strings.Contains(page, "withhold any") || !strings.Contains(page, `href="`+questionPath(ws.ID, q.ID)+`/reasons"`) {
+		t.Error("the archived panel's link to its reasons offers to withhold them, or is gone")
+	}
+	if _, page := h.get(calibrationPath(ws.ID)); strings.Contains(page, `href="`+wp+`/questions/new"`) || !strings.Contains(page, "This workshop has no calibration questions") {
+		t.Error("the archived calibration page sends the facilitator to add a calibration question, or does not say it has none")
+	}
+}
