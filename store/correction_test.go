@@ -359,10 +359,7 @@ func TestSaveChecksTheQuestionAsItNowStands(t *testing.T) {
 func TestCorrectionKeepsARevealedQuestionACalibrationQuestion(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
-	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
-	must(t, db.CreateWorkshop(ctx, &w))
-	cal := workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
-		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+	w, cal := culvertWorkshop(t, db)
 	must(t, db.AddQuestion(ctx, &cal))
 	must(t, db.SetTrueValue(ctx, cal.ID, 420, true, "the inspection report"))
 	shown, err := db.Question(ctx, cal.ID)
@@ -403,15 +400,13 @@ func TestCorrectionKeepsARevealedQuestionACalibrationQuestion(t *testing.T) {
 func TestAddQuestionRefusesWhatIsSetLater(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
-	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
-	must(t, db.CreateWorkshop(ctx, &w))
+	w, cal := culvertWorkshop(t, db)
 	for field, set := range map[string]func(*workshop.Question){
 		"revealed":               func(q *workshop.Question) { q.Revealed = true },
 		"retired":                func(q *workshop.Question) { q.Retired = true },
 		"log_uniform_background": func(q *workshop.Question) { q.LogScale = true },
 	} {
-		q := workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
-			Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+		q := cal
 		x := 420.0
 		q.TrueValue = &x
 		set(&q)

@@ -22,13 +22,10 @@ import (
 func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
-	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
-	must(t, db.CreateWorkshop(ctx, &w))
+	w, cal := culvertWorkshop(t, db)
 	target := workshop.Question{WorkshopID: w.ID, Wording: "Share of culverts blocked after a storm?", Quantity: "blocked share",
 		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
 	must(t, db.AddQuestion(ctx, &target))
-	cal := workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
-		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
 	must(t, db.AddQuestion(ctx, &cal))
 	edited := target
 	edited.Wording = "Share of culverts blocked after a heavy storm?"
@@ -175,4 +172,15 @@ func TestRevealFreezeChangedWithoutAnEventIsRefused(t *testing.T) {
 	if err := parse(exportJSON(t, db, p.w.ID)); !errors.As(err, &ie) || ie.Field != "questions[1].revealed_through" {
 		t.Errorf("a freeze naming no revision of the question: the record reads with %v, want questions[1].revealed_through refused", err)
 	}
+}
+
+// culvertWorkshop creates an invented workshop and returns it with a
+// calibration question for it, not yet added: culverts inspected last
+// year, between 1 and 5000, asked at 5/50/95%.
+func culvertWorkshop(t *testing.T, db *DB) (workshop.Workshop, workshop.Question) {
+	t.Helper()
+	w := workshop.Workshop{Title: "Culvert blockage (invented)", Invented: true}
+	must(t, db.CreateWorkshop(context.Background(), &w))
+	return w, workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
+		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
 }
