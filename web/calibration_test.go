@@ -1050,7 +1050,7 @@ func TestCorrectionOfALogScaleQuestionSaysWhy(t *testing.T) {
 		want  string
 	}{
 		{"a lower bound below 0", form("-1", true), "lower", "must be at least 0 while the question&#39;s information is scored on the log scale"},
-		{"no longer a calibration question", form("0", false), "", "calibration: must stay ticked while the question&#39;s information is scored on the log scale: set it back to the uniform scale on the calibration page first"},
+		{"no longer a calibration question", form("0", false), "calibration", "must stay ticked while the question&#39;s information is scored on the log scale: set it back to the uniform scale on the calibration page first"},
 	} {
 		before := h.counts(p.ws.ID)
 		res, body := h.post(questionPath(p.ws.ID, q.ID)+"/edit", c.form)

@@ -155,12 +155,53 @@ func parseQuestion(f *Form) workshop.Question {
 	return q
 }
 
-// lockedFieldLabels names, as the full question form labels them, the
-// fields that answers fix (workshop.Question.CheckCorrection).
-var lockedFieldLabels = []struct{ name, label string }{
+// lockedFields are the question form's fields that answers fix
+// (workshop.Question.CheckCorrection), in the form's order, with the
+// labels the full form shows them by. The form takes its labels from
+// here, and the form that no longer offers these fields names a refusal
+// of one by the same words.
+var lockedFields = []struct{ name, label string }{
 	{"lower", "Lower bound"}, {"upper", "Upper bound"}, {"format", "How experts answer"},
-	{"preset", "Probabilities"}, {"custom_probs", "Probabilities"}, {"bin_edges", "Bin edges"},
+	{"preset", "Probabilities"}, {"custom_probs", "Custom probabilities"}, {"bin_edges", "Bin edges"},
 	{"chips", "Chips per expert"}, {"calibration", "Calibration"}, {"true_value", "True value"},
+}
+
+// lockedLabel is the full question form's label of a field that answers
+// fix; "" for any other field.
+func lockedLabel(name string) string {
+	for _, l := range lockedFields {
+		if l.name == name {
+			return l.label
+		}
+	}
+	return ""
+}
+
+// refusalSummary heads a refused question form. The correction form that
+// no longer offers the fields answers fix says a refusal of one below the
+// units, where their values are shown, and marks no field for it.
+func (v questionForm) refusalSummary() string {
+	if !v.locked() {
+		return nothingSavedSummary
+	}
+	var fixed, marked bool
+	for name := range v.Form.Errors {
+		switch {
+		case name == "":
+		case lockedLabel(name) != "":
+			fixed = true
+		default:
+			marked = true
+		}
+	}
+	switch {
+	case fixed && marked:
+		return "Nothing was saved. Correct the marked fields and send again; what this form changed in the fixed part of the question is said below the units."
+	case fixed:
+		return "Nothing was saved: this form was opened before an expert answered, and it changed what their answers now fix, as said below the units. " +
+			"The wording, quantity and units you typed are kept here: send the form again to correct them."
+	}
+	return nothingSavedSummary
 }
 
 // questionValues writes q as the question form's values, for correcting it.
@@ -260,7 +301,7 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 				s.fail(w, r, err)
 				return
 			default:
-				f.Fail(err, questionAliases)
+				f.failWithBoxes(err, questionAliases, "calibration")
 			}
 		}
 	}

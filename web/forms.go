@@ -4,6 +4,7 @@ import (
 	"errors"
 	"net/http"
 	"net/url"
+	"slices"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -17,6 +18,9 @@ import (
 
 // RuleChoice is broken by a value that is not one of a field's choices.
 const ruleChoice elicit.Rule = "must be one of the offered choices"
+
+// nothingSavedSummary heads a form refused for what was typed in it.
+const nothingSavedSummary = "Nothing was saved. Correct the marked fields and send again."
 
 // FormErrors maps a form field's name to the message shown beside it.
 // The key "" holds a message about the form as a whole.
@@ -100,6 +104,18 @@ func (f *Form) Fail(err error, aliases map[string]string) {
 		}
 	}
 	f.set("", ie.Field+": "+msg)
+}
+
+// failWithBoxes is Fail for a form with checkboxes, which a browser does
+// not send when they are unticked: a refusal naming one of boxes is said
+// beside it, not above the form in elicit's words ("calibration: …").
+func (f *Form) failWithBoxes(err error, aliases map[string]string, boxes ...string) {
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && slices.Contains(boxes, ie.Field) {
+		f.set(ie.Field, string(ie.Rule)+detailSuffix(ie.Detail))
+		return
+	}
+	f.Fail(err, aliases)
 }
 
 func fieldCandidates(field string, aliases map[string]string) []string {

@@ -791,7 +791,7 @@ func formError(f *Form) templ.Component {
 		}
 		ctx = templ.InitializeContext(ctx)
 		ctx = templ.ClearChildren(ctx)
-		templ_7745c5c3_Err = formErrorSaying(f, "Nothing was saved. Correct the marked fields and send again.").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = formErrorSaying(f, nothingSavedSummary).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
