@@ -334,13 +334,77 @@ func previewInviteText(format workshop.AnswerFormat, name string) string {
 	return "Enter " + whose + " values"
 }
 
+// saving says whether an answer form saves, and if not, why not.
+type saving int
+
+const (
+	savingOpen     saving = iota
+	savingClosed          // the round is closed; the facilitator may open the next
+	savingFinished        // the workshop is archived: no round will open again
+	savingRevoked         // the expert's access is revoked (the facilitator's entry page)
+	savingFinal           // the question's true value has been shown: its answers are final
+)
+
+// saving is why the page's form saves or does not.
+func (v expertQuestionView) saving() saving {
+	switch {
+	case v.Frozen:
+		return savingFinal
+	case v.Open:
+		return savingOpen
+	case v.OnBehalf != nil && v.OnBehalf.Revoked:
+		return savingRevoked
+	case v.Finished:
+		return savingFinished
+	}
+	return savingClosed
+}
+
+// onBehalfOf is the expert's name on the facilitator's entry page, ""
+// on the expert's own.
+func (v expertQuestionView) onBehalfOf() string {
+	if v.OnBehalf == nil {
+		return ""
+	}
+	return v.OnBehalf.Expert
+}
+
 // previewInviteEnd ends previewInvite's sentence: while saving is closed
-// the fit can still be tried, and the sentence does not promise a save.
-func previewInviteEnd(open bool) string {
-	if open {
+// the fit can still be tried, and the sentence says why nothing tried is
+// kept in words true of the case. whose is "" on the expert's own page,
+// else the expert's name on the facilitator's.
+func previewInviteEnd(s saving, whose string) string {
+	switch s {
+	case savingOpen:
 		return " before you save."
+	case savingFinished:
+		if whose != "" {
+			return ". This workshop is archived, so nothing tried here is kept."
+		}
+		return ". The facilitator has closed this workshop, so nothing tried here is kept."
+	case savingRevoked:
+		return ". " + whose + "'s access is revoked, so nothing tried here is kept."
+	case savingFinal:
+		return ". Answers to this question are final, so nothing tried here is kept."
 	}
 	return ". Saving is closed for now: nothing tried here is kept."
+}
+
+// closedButton is the disabled save button's words when the form does
+// not save; whose as for previewInviteEnd.
+func closedButton(s saving, whose string) string {
+	switch s {
+	case savingFinished:
+		if whose != "" {
+			return "Saving is closed: the workshop is archived"
+		}
+		return "Saving is closed: the workshop is over"
+	case savingRevoked:
+		return "Saving is closed: access revoked"
+	case savingFinal:
+		return "Answers to this question are final"
+	}
+	return "Saving is closed for this round"
 }
 
 // answerValues writes a saved answer back as form values, for

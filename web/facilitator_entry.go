@@ -22,6 +22,7 @@ import (
 // onBehalf is what the answer form adds on the facilitator's page.
 type onBehalf struct {
 	Expert       string
+	Revoked      bool
 	Channel      string
 	ChannelError string
 }
@@ -135,10 +136,10 @@ func (s *Server) lastChannel(r *http.Request, expertID int64) (workshop.Channel,
 func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[string]string, reason, channel string) entryView {
 	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
 	fv := expertQuestionView{
-		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked,
+		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked, Finished: sc.ws.Archived,
 		Form:     newAnswerForm(sc.q, typed, sc.speaker()),
 		Frozen:   sc.q.Frozen(),
-		OnBehalf: &onBehalf{Expert: sc.e.Name, Channel: channel},
+		OnBehalf: &onBehalf{Expert: sc.e.Name, Revoked: sc.e.Revoked, Channel: channel},
 	}
 	fv.Form.Reason = reason
 	if fv.Frozen {
