@@ -29,15 +29,22 @@ func seedInputID(q int64, name string) string {
 
 // answeredBy says who has answered a calibration question and who has
 // not, in a sentence: "Not yet: nobody." read as a placeholder where
-// everyone had answered.
-func answeredBy(answered, not []string) string {
+// everyone had answered. In an archived workshop (finished) nobody will
+// answer later, and the sentence says what happened.
+func answeredBy(answered, not []string, finished bool) string {
 	switch {
+	case len(answered) == 0 && len(not) == 0 && finished:
+		return "No active expert was on the panel."
 	case len(answered) == 0 && len(not) == 0:
 		return "No active expert on the panel yet."
+	case len(answered) == 0 && finished:
+		return "Nobody answered it."
 	case len(answered) == 0:
 		return "Nobody has answered yet."
 	case len(not) == 0:
 		return "Answered by everyone: " + wordList(answered) + "."
+	case finished:
+		return "Answered by " + wordList(answered) + ". " + wordList(not) + " did not answer."
 	}
 	return "Answered by " + wordList(answered) + ". Not yet: " + wordList(not) + "."
 }
