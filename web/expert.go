@@ -103,6 +103,21 @@ type expertQuestionView struct {
 	// Frozen is set once a calibration question's true value has been
 	// revealed: the expert's last answer is shown and cannot change.
 	Frozen bool
+	// Unanswered says the expert has saved no answer to the question
+	// (nor has the facilitator for them).
+	Unanswered bool
+}
+
+// finalWithoutAnswer says the question's answers are final and the expert
+// gave none: the form shows a sentence, not empty inputs locked.
+func (v expertQuestionView) finalWithoutAnswer() bool { return v.Frozen && v.Unanswered }
+
+// noAnswerSentence says, in the answer form's place, that no answer was given.
+func (v expertQuestionView) noAnswerSentence() string {
+	if v.OnBehalf != nil {
+		return v.OnBehalf.Expert + " gave no answer to this question."
+	}
+	return "You gave no answer to this question."
 }
 
 type expertQuestionInfo struct {
@@ -792,6 +807,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 	if q.Frozen() && q.TrueValue != nil {
 		v.Question.Revealed = chart.FormatValue(*q.TrueValue)
 	}
+	v.Unanswered = len(sc.own) == 0
 	if q.Frozen() {
 		v.Frozen = true
 		if n := len(sc.own); n > 0 {

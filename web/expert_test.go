@@ -874,7 +874,7 @@ func TestRevealedQuestionWithoutAnAnswer(t *testing.T) {
 		t.Fatal(err)
 	}
 	_, page := g.get(g.qpath(0, g.qcal))
-	if !strings.Contains(page, "You gave no answer to this question before then, and answers to it can no longer be added.") {
+	if !strings.Contains(page, "The true value has been shown, so answers to this question can no longer be added.") {
 		t.Error("no sentence saying no answer can be added")
 	}
 	for _, wrong := range []string{"your answer below is final", "Enter your values and choose"} {

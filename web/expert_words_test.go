@@ -532,7 +532,7 @@ func TestRevealedUnansweredQuestionOffersNothingToRead(t *testing.T) {
 				t.Fatal(err)
 			}
 			_, page := h.get(links[i].Path + "q/" + strconv.FormatInt(q.ID, 10))
-			if !strings.Contains(page, "You gave no answer to this question before then") {
+			if !strings.Contains(page, "You gave no answer to this question.") {
 				t.Fatalf("the revealed question's page does not say the expert gave no answer:\n%s", page)
 			}
 			if strings.Contains(page, "You can read your answers") || strings.Contains(page, "you can when the facilitator opens the next round") {

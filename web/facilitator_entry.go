@@ -137,8 +137,8 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
 	fv := expertQuestionView{
 		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked, Finished: sc.ws.Archived,
-		Form:     newAnswerForm(sc.q, typed, sc.speaker()),
-		Frozen:   sc.q.Frozen(),
+		Form:   newAnswerForm(sc.q, typed, sc.speaker()),
+		Frozen: sc.q.Frozen(), Unanswered: len(own) == 0,
 		OnBehalf: &onBehalf{Expert: sc.e.Name, Revoked: sc.e.Revoked, Channel: channel},
 	}
 	fv.Form.Reason = reason
