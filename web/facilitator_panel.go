@@ -217,10 +217,16 @@ type panelView struct {
 	Recorded     recordedData // study data the agreed prior is updated with
 	// Sheets says which answer sheet and row a judgement came from.
 	Sheets map[int64]workshop.SheetSource
-	// Done says what the form that led here saved: "corrected" or
-	// "restored" (the question's correction, or bringing it back), or "".
+	// Done says what the form that led here saved (doneCorrected,
+	// doneRestored), or "": the confirmation shown once (confirm_once.go).
 	Done string
 }
+
+// What a form that leads to the panel saved, said there once.
+const (
+	doneCorrected = "corrected" // the question's correction
+	doneRestored  = "restored"  // the question brought back
+)
 
 // reasoned are the question's revisions that carry a reason, oldest first.
 func (st questionState) reasoned() []workshop.Revision {
@@ -301,8 +307,8 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	}
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
-	if status == http.StatusOK {
-		v.Done = r.URL.Query().Get("done")
+	if status == http.StatusOK && forms.page == "" {
+		v.Done = s.takeConfirmation(w, r, questionPath(ws.ID, q.ID), doneCorrected, doneRestored)
 	}
 	v.Strength = panelStrength(d)
 	if v.Recorded, err = s.recordedFor(r.Context(), ws, q); err != nil {

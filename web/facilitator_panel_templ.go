@@ -175,13 +175,13 @@ func panelPage(v panelView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-		} else if v.Done == "restored" {
+		} else if v.Done == doneRestored {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 5, "<p class=\"banner banner-saved\" role=\"status\">The question is back: experts see it again. The decision log records why.</p>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
 		}
-		if v.Done == "corrected" {
+		if v.Done == doneCorrected {
 			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 6, "<p class=\"banner banner-saved\" role=\"status\">Correction saved. The decision log keeps the earlier text and your reason.</p>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err

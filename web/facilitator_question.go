@@ -310,7 +310,8 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 			questionFormPage(questionForm{Workshop: ws, Form: f, Edit: ed}))
 		return
 	}
-	http.Redirect(w, r, questionPath(ws.ID, ed.Question.ID)+"?done=corrected", http.StatusSeeOther)
+	s.confirmOnce(w, r, questionPath(ws.ID, ed.Question.ID), doneCorrected)
+	http.Redirect(w, r, questionPath(ws.ID, ed.Question.ID), http.StatusSeeOther)
 }
 
 // retireQuestion retires a question or brings it back (action=retire or
@@ -339,9 +340,8 @@ func (s *Server) retireQuestion(w http.ResponseWriter, r *http.Request) {
 		s.showPanelWith(w, r, f.refusedStatus(), ws, q, panelForms{retire: f})
 		return
 	}
-	to := questionPath(ws.ID, q.ID)
 	if action == "restore" {
-		to += "?done=restored"
+		s.confirmOnce(w, r, questionPath(ws.ID, q.ID), doneRestored)
 	}
-	http.Redirect(w, r, to, http.StatusSeeOther)
+	http.Redirect(w, r, questionPath(ws.ID, q.ID), http.StatusSeeOther)
 }

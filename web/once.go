@@ -7,6 +7,7 @@ import (
 	"mime"
 	"net/http"
 	"net/url"
+	"slices"
 	"sync"
 	"time"
 
@@ -74,6 +75,7 @@ type oncePost struct {
 	done     chan struct{} // closed when the first copy has finished
 	path     string        // the address posted to
 	location string        // where it sent the browser; "" when it did not
+	cookies  []string      // the cookies it set with that (a confirmation, confirm_once.go)
 	expires  time.Time     // set when done
 }
 
@@ -123,12 +125,12 @@ func (o *sentOnce) begin(id [sha256.Size]byte, path string, now time.Time) (p *o
 
 // end records where the first copy sent the browser, or forgets the post
 // when it sent it nowhere, and lets waiting copies go on.
-func (o *sentOnce) end(id [sha256.Size]byte, p *oncePost, location string, now time.Time) {
+func (o *sentOnce) end(id [sha256.Size]byte, p *oncePost, location string, cookies []string, now time.Time) {
 	o.mu.Lock()
 	if location == "" {
 		delete(o.posts, id)
 	} else {
-		p.location, p.expires = location, now.Add(onceLife)
+		p.location, p.cookies, p.expires = location, cookies, now.Add(onceLife)
 		if prev, ok := o.last[p.path]; ok && prev != id {
 			if q, ok := o.posts[prev]; ok && !q.expires.IsZero() {
 				delete(o.posts, prev)
@@ -196,6 +198,11 @@ func (s *Server) sendOnce(next http.Handler) http.Handler {
 				return
 			}
 			if p.location != "" {
+				// The copy that reaches the browser says what the
+				// first said: the first's answer may have been dropped.
+				for _, c := range p.cookies {
+					w.Header().Add("Set-Cookie", c)
+				}
 				http.Redirect(w, r, p.location, http.StatusSeeOther)
 				return
 			}
@@ -203,7 +210,7 @@ func (s *Server) sendOnce(next http.Handler) http.Handler {
 			return
 		}
 		rw := &sentOnOrNot{ResponseWriter: w}
-		defer func() { s.once.end(id, p, rw.location, s.now()) }()
+		defer func() { s.once.end(id, p, rw.location, rw.cookies, s.now()) }()
 		next.ServeHTTP(rw, r)
 	})
 }
@@ -216,15 +223,18 @@ func urlEncoded(r *http.Request) bool {
 	return err == nil && ct == "application/x-www-form-urlencoded"
 }
 
-// sentOnOrNot notes where a handler sent the browser with 303 See Other.
+// sentOnOrNot notes where a handler sent the browser with 303 See Other,
+// and the cookies it set with it.
 type sentOnOrNot struct {
 	http.ResponseWriter
 	location string
+	cookies  []string
 }
 
 func (w *sentOnOrNot) WriteHeader(code int) {
 	if code == http.StatusSeeOther {
 		w.location = w.Header().Get("Location")
+		w.cookies = slices.Clone(w.Header().Values("Set-Cookie"))
 	}
 	w.ResponseWriter.WriteHeader(code)
 }

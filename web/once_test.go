@@ -345,7 +345,7 @@ func TestSentOnceMakesRoomForANewPost(t *testing.T) {
 			t.Fatalf("post %d: first %v, remembered %v", i, first, remembered)
 		}
 		if i > 0 { // the first post is still running
-			o.end(id(i), p, "/done/"+strconv.Itoa(i), now.Add(time.Duration(i)*time.Millisecond))
+			o.end(id(i), p, "/done/"+strconv.Itoa(i), nil, now.Add(time.Duration(i)*time.Millisecond))
 		}
 	}
 	later := now.Add(time.Minute)
@@ -353,7 +353,7 @@ func TestSentOnceMakesRoomForANewPost(t *testing.T) {
 	if !first || !remembered {
 		t.Fatalf("a new post at full memory: first %v, remembered %v", first, remembered)
 	}
-	o.end(id(onceMax), p, "/done/new", later)
+	o.end(id(onceMax), p, "/done/new", nil, later)
 	if _, ok := o.posts[id(1)]; ok {
 		t.Error("the post done longest ago is still held")
 	}

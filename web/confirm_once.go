@@ -1,0 +1,48 @@
+package web
+
+import (
+	"net/http"
+	"slices"
+)
+
+// A form that saved says so on the page it sends the browser to, once.
+// The confirmation used to ride in that page's address (?done=corrected),
+// so every reload of the page confirmed the save again. It now rides in a
+// cookie for that page only, set with the redirect and cleared by the
+// page that shows it: no script is needed, and a reload, or the page
+// opened later, says nothing. A form sent twice (a double click, a
+// browser's retry) is sent on with the same cookie (sendOnce).
+
+// doneCookie carries what the form saved to the page it leads to.
+const doneCookie = "parley_done"
+
+// doneLife bounds how long a confirmation waits for its page: the
+// redirect is followed at once.
+const doneLife = 60 // seconds
+
+// confirmOnce sets the confirmation what for the page at path; the caller
+// then redirects there.
+func (s *Server) confirmOnce(w http.ResponseWriter, r *http.Request, path, what string) {
+	http.SetCookie(w, &http.Cookie{
+		Name: doneCookie, Value: what, Path: path, MaxAge: doneLife,
+		HttpOnly: true, Secure: s.opt.SecureCookies || r.TLS != nil, SameSite: http.SameSiteStrictMode,
+	})
+}
+
+// takeConfirmation returns the confirmation left for the page at path,
+// if it is one of known, and clears it so that it is shown once; "" when
+// there is none.
+func (s *Server) takeConfirmation(w http.ResponseWriter, r *http.Request, path string, known ...string) string {
+	c, err := r.Cookie(doneCookie)
+	if err != nil {
+		return ""
+	}
+	http.SetCookie(w, &http.Cookie{
+		Name: doneCookie, Value: "", Path: path, MaxAge: -1,
+		HttpOnly: true, Secure: s.opt.SecureCookies || r.TLS != nil, SameSite: http.SameSiteStrictMode,
+	})
+	if !slices.Contains(known, c.Value) {
+		return ""
+	}
+	return c.Value
+}
