@@ -7,7 +7,7 @@ import (
 	"mime"
 	"net/http"
 	"net/url"
-	"slices"
+	"strings"
 	"sync"
 	"time"
 
@@ -75,7 +75,7 @@ type oncePost struct {
 	done     chan struct{} // closed when the first copy has finished
 	path     string        // the address posted to
 	location string        // where it sent the browser; "" when it did not
-	cookies  []string      // the cookies it set with that (a confirmation, confirm_once.go)
+	cookies  []string      // the confirmation it set with that (confirm_once.go)
 	expires  time.Time     // set when done
 }
 
@@ -224,7 +224,7 @@ func urlEncoded(r *http.Request) bool {
 }
 
 // sentOnOrNot notes where a handler sent the browser with 303 See Other,
-// and the cookies it set with it.
+// and the confirmation cookie it set with it.
 type sentOnOrNot struct {
 	http.ResponseWriter
 	location string
@@ -234,7 +234,13 @@ type sentOnOrNot struct {
 func (w *sentOnOrNot) WriteHeader(code int) {
 	if code == http.StatusSeeOther {
 		w.location = w.Header().Get("Location")
-		w.cookies = slices.Clone(w.Header().Values("Set-Cookie"))
+		// Only the confirmation is said again to a second copy: any
+		// other cookie a handler set is its first answer's alone.
+		for _, c := range w.Header().Values("Set-Cookie") {
+			if strings.HasPrefix(c, doneCookie+"=") {
+				w.cookies = append(w.cookies, c)
+			}
+		}
 	}
 	w.ResponseWriter.WriteHeader(code)
 }

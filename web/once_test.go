@@ -4,6 +4,7 @@ import (
 	"context"
 	"crypto/sha256"
 	"net/http"
+	"net/http/httptest"
 	"net/url"
 	"regexp"
 	"slices"
@@ -392,5 +393,23 @@ func TestNoFieldCutsAPaste(t *testing.T) {
 	res, body := ex.get(strings.TrimSuffix(links[0].Path, "/") + "/q/" + strconv.FormatInt(qs[0].ID, 10))
 	if res.StatusCode != http.StatusOK || strings.Contains(body, "maxlength") {
 		t.Errorf("the expert's question page (%d) has a field that cuts a paste", res.StatusCode)
+	}
+}
+
+// A form sent twice is sent on with the first copy's confirmation
+// (confirm_once.go), and with no other cookie its handler set: those were
+// the first answer's alone.
+func TestSentAgainCarriesOnlyTheConfirmation(t *testing.T) {
+	rec := httptest.NewRecorder()
+	w := &sentOnOrNot{ResponseWriter: rec}
+	http.SetCookie(w, &http.Cookie{Name: "parley_other", Value: "first-answer-only", Path: "/"})
+	http.SetCookie(w, &http.Cookie{Name: doneCookie, Value: "corrected", Path: "/w/1/q/2"})
+	w.Header().Set("Location", "/w/1/q/2")
+	w.WriteHeader(http.StatusSeeOther)
+	if len(w.cookies) != 1 || !strings.HasPrefix(w.cookies[0], doneCookie+"=corrected") {
+		t.Errorf("cookies kept for a second copy: %q; want the confirmation alone", w.cookies)
+	}
+	if w.location != "/w/1/q/2" {
+		t.Errorf("location %q", w.location)
 	}
 }
