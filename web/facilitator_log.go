@@ -3,6 +3,7 @@ package web
 import (
 	"encoding/json"
 	"net/http"
+	"sort"
 	"strconv"
 	"strings"
 
@@ -47,8 +48,10 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, src.Events, src.Questions, src.Experts, src.Priors, src.Revisions, chainOf(src))))
 }
 
-// newLogView writes each event as a row of the log, naming experts and
-// questions instead of their ids; ps are the workshop's agreed priors,
+// newLogView writes each event as a row of the log, and each judgement
+// the facilitator entered on an expert's behalf (enteredOnBehalf) in its
+// place among them, naming experts and questions instead of their ids;
+// revs are the workshop's revisions; ps are its agreed priors,
 // for what an agreement's event does not carry (a consensus judgement);
 // c is the record's fingerprint chain.
 func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, c fingerprint.Chain) logView {
@@ -60,8 +63,15 @@ func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Questi
 		w.questions[q.ID] = q
 	}
 	closes := c.RoundCloses()
-	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs)), Fingerprint: c.Head().Short()}
+	entries := enteredOnBehalf(evs, revs)
+	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs)+len(entries)), Fingerprint: c.Head().Short()}
 	for _, e := range evs {
+		// An entry before the event, or at its very time, comes first, as
+		// the record's chain orders a revision before an event.
+		for len(entries) > 0 && !entries[0].At.After(e.At) {
+			v.Rows = append(v.Rows, w.entryRow(entries[0]))
+			entries = entries[1:]
+		}
 		row := logRow{
 			When:      e.At.UTC().Format("2006-01-02 15:04:05 UTC"),
 			Decision:  eventLabel(e.Kind),
@@ -76,7 +86,46 @@ func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Questi
 		}
 		v.Rows = append(v.Rows, row)
 	}
+	for _, rv := range entries {
+		v.Rows = append(v.Rows, w.entryRow(rv))
+	}
 	return v
+}
+
+// enteredOnBehalf are the judgements the facilitator entered one at a
+// time on an expert's behalf, oldest first. Such an entry is a decision
+// the store keeps in the revision itself (entered_by, channel), without
+// an event of its own; the judgements of an answer sheet have their
+// sheet's event (workshop.SheetSources) and its one line instead.
+func enteredOnBehalf(evs []workshop.Event, revs []workshop.Revision) []workshop.Revision {
+	sheets := workshop.SheetSources(evs, revs)
+	var out []workshop.Revision
+	for _, rv := range revs {
+		if _, fromSheet := sheets[rv.ID]; rv.EnteredBy == workshop.ByFacilitator && !fromSheet {
+			out = append(out, rv)
+		}
+	}
+	sort.SliceStable(out, func(i, j int) bool {
+		if !out[i].At.Equal(out[j].At) {
+			return out[i].At.Before(out[j].At)
+		}
+		return out[i].ID < out[j].ID
+	})
+	return out
+}
+
+// entryRow is the log's line for a judgement the facilitator entered on
+// an expert's behalf: the question it answers, whose it is, the round,
+// how it reached the facilitator, and the reason given with it.
+func (w eventWriter) entryRow(rv workshop.Revision) logRow {
+	return logRow{
+		When:      rv.At.UTC().Format("2006-01-02 15:04:05 UTC"),
+		Decision:  "Judgement entered on an expert's behalf",
+		AppliesTo: w.question(rv.QuestionID),
+		Reason:    orDash(rv.Reason),
+		Detail: w.expert(rv.ExpertID) + "'s judgement for round " + strconv.Itoa(rv.Round) +
+			", entered by the facilitator " + channelRecorded(rv.Channel) + ".",
+	}
 }
 
 // eventLabels are the log's plain words for each kind of decision.
