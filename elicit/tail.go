@@ -69,13 +69,20 @@ func tailWarning(probs, values, resid []float64) (Warning, bool) {
 	if !ok {
 		return Warning{}, false
 	}
+	return Warning{WarnTailMisfit, m.Message(fmt.Sprintf("%.4g", m.Value))}, true
+}
+
+// Message is the WarnTailMisfit warning's sentence with the outer value
+// written as value: a page writes it as the expert typed it (9% where
+// they typed 9%), where the warning itself, which knows no typing,
+// writes %.4g (0.09).
+func (m TailMiss) Message(value string) string {
 	ratio := m.RatioText()
 	if m.Ratio < 1000 {
 		ratio = "about " + ratio
 	}
-	return Warning{WarnTailMisfit, fmt.Sprintf(
-		"The fitted Beta puts %s of the chance %s %.4g, where the expert put %s: %s. Its probability gaps are small, but it does not match the expert's outer value; show the expert the fit.",
-		ChanceText(m.Fitted), m.Side(), m.Value, ChanceText(m.Stated), ratio)}, true
+	return "The fitted Beta puts " + ChanceText(m.Fitted) + " of the chance " + m.Side() + " " + value + ", where the expert put " + ChanceText(m.Stated) + ": " + ratio +
+		". Its probability gaps are small, but it does not match the expert's outer value; show the expert the fit."
 }
 
 // Side is "above" for the tail above the outer value and "below" for

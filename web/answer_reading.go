@@ -320,6 +320,24 @@ func boundsShownWords(q workshop.Question, fit elicit.Fit, percent bool, sp spea
 	return s + " A curve pressed this hard against the edge usually means " + sp.pick("your values need", "the values need") + " another look."
 }
 
+// warningsAsTyped are a fit's warnings as elicit words them for the
+// facilitator, with the stated value a warning names written as the
+// answer was typed (typedBack), as the row's stated values beside it
+// are: a tail miss beyond a 95% value typed as 9% reads "above 9%", not
+// elicit's "above 0.09".
+func warningsAsTyped(q workshop.Question, fit elicit.Fit, percent bool) []string {
+	out := make([]string, len(fit.Warnings))
+	for i, w := range fit.Warnings {
+		out[i] = w.Message
+		if w.Code == elicit.WarnTailMisfit {
+			if m, ok := fit.TailMiss(); ok {
+				out[i] = m.Message(typedBack(q, m.Value, percent))
+			}
+		}
+	}
+	return out
+}
+
 // expertWarnings are a fit's warnings in words for the expert, or, on the
 // facilitator's page for entering on an expert's behalf, about the expert
 // by name (sp); the facilitator's panel keeps elicit's own, written for

@@ -612,3 +612,27 @@ func TestSheetRefusalIsSaidFirst(t *testing.T) {
 		t.Errorf("the refusal is said %d times", n)
 	}
 }
+
+// A row typed in percentages has its warnings' values in percentages, as
+// its Stated column writes them: a tail miss beyond a 95% value typed as
+// 9% says "above 9%", where the warning said "above 0.09" beside the
+// row's "95%:\u00a09%". A row typed in decimals keeps its decimals.
+func TestSheetPreviewWarningsWriteValuesAsTyped(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,1%,3%,9%\nBruno Ferrante,Q1,0.01,0.03,0.09\n"
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {sheet}, "channel": {"paper_form"}})
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("preview: %d", r.StatusCode)
+	}
+	rows := strings.Split(body[strings.Index(body, `id="sheet-rows"`):], "<tr>")
+	if len(rows) < 4 {
+		t.Fatalf("the preview has %d rows", len(rows)-2)
+	}
+	ada, bruno := rows[2], rows[3]
+	if !strings.Contains(ada, "95%:\u00a09%") || !strings.Contains(ada, "of the chance above 9%, where the expert put 5%") || strings.Contains(ada, "0.09") {
+		t.Errorf("the row typed in percentages: %s", ada)
+	}
+	if !strings.Contains(bruno, "95%:\u00a00.09") || !strings.Contains(bruno, "of the chance above 0.09, where the expert put 5%") {
+		t.Errorf("the row typed in decimals: %s", bruno)
+	}
+}
