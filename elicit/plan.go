@@ -401,20 +401,28 @@ func (w PriorWorth) DataShare(n int) float64 {
 }
 
 // WorthOf says in plain words what d weighs: in observed trials for a
-// proportion on [0, 1] (PriorWorth.String), and as α + β itself on other
-// bounds, where trials mean nothing.
-func WorthOf(d ScaledBeta) string {
+// proportion on [0, 1] (PriorWorth.Words, its counts written by shape as
+// the caller writes d's α and β), and as α + β itself on other bounds,
+// where trials mean nothing.
+func WorthOf(d ScaledBeta, shape func(float64) string) string {
 	if d.OnUnit() {
-		return Worth(d.Beta).String()
+		return Worth(d.Beta).Words(shape)
 	}
 	return "α + β = " + ESSText(d.Alpha+d.Beta.Beta) + ": how strongly the prior holds its shape (not a number of trials on these bounds)"
 }
 
-// String says in plain words what the prior is worth: WorthInTrials with
+// Words says in plain words what the prior is worth: WorthInTrials with
 // its split into successes and failures, "worth about 40 observed trials
-// (2 successes and 38 failures)".
-func (w PriorWorth) String() string {
-	return WorthInTrials(w.Trials) + " (" + counted(w.Successes, "success", "successes") + " and " + counted(w.Failures, "failure", "failures") + ")"
+// (2 successes and 38 failures)". The successes and failures are the
+// Beta's α and β, written by shape as the page or command writes them in
+// the Beta beside this line: beside Beta(3, 20000) they are "3 successes
+// and 20000 failures", where whole counts said 19997, a figure the Beta
+// does not show, and beside Beta(0.99997, 5) "0.99997 successes", where
+// four figures said "1 success". A count is singular only when written
+// "1" (which a shape written to its own side of 1, ShapeDigits, is only
+// when it is 1).
+func (w PriorWorth) Words(shape func(float64) string) string {
+	return WorthInTrials(w.Trials) + " (" + countedAs(shape(w.Successes), "success", "successes") + " and " + countedAs(shape(w.Failures), "failure", "failures") + ")"
 }
 
 // WorthInTrials is the one phrase for what a prior on a proportion
@@ -449,8 +457,11 @@ func ESSText(v float64) string {
 }
 
 // counted is ESSText(v) with its noun, singular when it reads as 1.
-func counted(v float64, one, many string) string {
-	if s := ESSText(v); s != "1" {
+func counted(v float64, one, many string) string { return countedAs(ESSText(v), one, many) }
+
+// countedAs is the written count s with its noun, singular when s is "1".
+func countedAs(s, one, many string) string {
+	if s != "1" {
 		return s + " " + many
 	}
 	return "1 " + one

@@ -467,7 +467,7 @@ func TestWorth(t *testing.T) {
 	if share != 0.8 || math.Abs(post.Mean()-((1-share)*0.05+share*12.0/160)) > 1e-15 {
 		t.Errorf("share %v, posterior mean %v", share, post.Mean())
 	}
-	if s := w.String(); !strings.Contains(s, "worth about 40 observed trials") || !strings.Contains(s, "2 successes and 38 failures") {
+	if s := w.Words(shapeWritten); !strings.Contains(s, "worth about 40 observed trials") || !strings.Contains(s, "2 successes and 38 failures") {
 		t.Errorf("worth reads %q", s)
 	}
 }

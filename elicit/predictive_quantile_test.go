@@ -39,13 +39,36 @@ func TestPredictiveQuantileAtTiesAgainstSciPy(t *testing.T) {
 	}
 }
 
+// shapeWritten writes α or β as a page might: four significant
+// figures, more to stay on its own side of 1.
+func shapeWritten(x float64) string { return strconv.FormatFloat(x, 'g', ShapeDigits(x, 4), 64) }
+
 // The uniform prior, the commonest quick prior, is worth 2 observed
-// trials: 1 success and 1 failure, in the singular.
+// trials: 1 success and 1 failure, in the singular. A shape just short
+// of 1 is not "1 success": written to its own side of 1, it is plural.
 func TestWorthWordsSingular(t *testing.T) {
-	if got, want := Worth(Beta{1, 1}).String(), "worth about 2 observed trials (1 success and 1 failure)"; got != want {
-		t.Errorf("%q, want %q", got, want)
+	for _, c := range []struct {
+		d    Beta
+		want string
+	}{
+		{Beta{1, 1}, "worth about 2 observed trials (1 success and 1 failure)"},
+		{Beta{0.5, 0.5}, "worth about 1 observed trial (0.5 successes and 0.5 failures)"},
+		{Beta{0.99997, 5}, "worth about 6 observed trials (0.99997 successes and 5 failures)"},
+		{Beta{7, 1.000001}, "worth about 8 observed trials (7 successes and 1.000001 failures)"},
+	} {
+		if got := Worth(c.d).Words(shapeWritten); got != c.want {
+			t.Errorf("%v: %q, want %q", c.d, got, c.want)
+		}
 	}
-	if got, want := Worth(Beta{0.5, 0.5}).String(), "worth about 1 observed trial (0.5 successes and 0.5 failures)"; got != want {
+}
+
+// The successes and failures are the Beta's α and β as the caller writes
+// them beside the line, not counts of their own figures: Beta(3, 19997.4)
+// written to four figures is Beta(3, 2e+04) here, and its worth splits
+// into 3 and 2e+04, not 19997.
+func TestWorthSplitsAsTheShapesAreWritten(t *testing.T) {
+	got := Worth(Beta{3, 19997.4}).Words(shapeWritten)
+	if want := "worth about 20000 observed trials (3 successes and 2e+04 failures)"; got != want {
 		t.Errorf("%q, want %q", got, want)
 	}
 }

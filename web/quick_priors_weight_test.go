@@ -62,7 +62,7 @@ func TestQuickPriorWeightOnEachScale(t *testing.T) {
 				c.want = append(c.want, `<td class="num">`+sum+"</td>")
 			}
 		} else if c.in.Method == elicit.MethodMeanSD {
-			c.want = append(c.want, "This prior is "+elicit.Worth(con.Dist.Beta).String()+".")
+			c.want = append(c.want, "This prior is "+elicit.Worth(con.Dist.Beta).Words(sv)+".")
 		} else {
 			c.want = append(c.want, `<td class="num">`+elicit.WorthInTrials(con.Dist.Alpha+con.Dist.Beta.Beta)+"</td>")
 		}
@@ -111,6 +111,52 @@ func TestPriorWorthReadsOneWayOnEveryPage(t *testing.T) {
 		}
 		if !strings.Contains(body, want+" (3.456 successes and 55.05 failures)") && !strings.Contains(body, want+"</td>") {
 			t.Errorf("%s: the worth is not split as Beta(3.456, 55.05)", page)
+		}
+	}
+}
+
+// The successes and failures a prior's worth is split into are its α and
+// β as the page writes them in the Beta beside it: Beta(3, 20000) is
+// "3 successes and 20000 failures", where whole counts said 19997, a
+// figure the Beta does not show; Beta(0.99997, 5) is "0.99997
+// successes", where four figures said "1 success". Both on the study
+// page (the agreed prior and the plan under it) and on quick priors.
+func TestPriorWorthCountsAreTheBetaAsWritten(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	for _, c := range []struct {
+		q                 workshop.Question
+		successes, trials float64
+		beta, split       string
+		lack              []string
+	}{
+		{qs[0], 3, 20000.4, "Beta(3, 20000)", "worth about 20000 observed trials (3 successes and 20000 failures)", []string{"19997 failures"}},
+		{qs[2], 0.99997, 5.99997, "Beta(0.99997, 5)", "worth about 6 observed trials (0.99997 successes and 5 failures)", []string{"1 success "}},
+	} {
+		q := c.q
+		agreeSample(t, h, q.ID, c.successes, c.trials, "invented")
+		s, n := strconv.FormatFloat(c.successes, 'g', -1, 64), strconv.FormatFloat(c.trials, 'g', -1, 64)
+		for _, page := range []string{
+			studyPath(ws.ID, q.ID) + "?trials=100",
+			// Quick priors offers the target question, Q1.
+			quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(qs[0].ID, 10) + "&construction=equivalent_sample&c_successes=" + s + "&c_trials=" + n,
+		} {
+			_, body := h.get(page)
+			if i := strings.Index(body, `id="results"`); i >= 0 {
+				body = body[i:]
+			} else if i := strings.Index(body, `id="prior"`); i >= 0 {
+				body = body[i:]
+			}
+			if !strings.Contains(body, c.beta) {
+				t.Errorf("%s: no %s", page, c.beta)
+			}
+			if !strings.Contains(body, c.split) {
+				t.Errorf("%s: the worth is not %q", page, c.split)
+			}
+			for _, l := range c.lack {
+				if strings.Contains(body, l) {
+					t.Errorf("%s: says %q", page, l)
+				}
+			}
 		}
 	}
 }

@@ -25,9 +25,9 @@ func intervalText(iv [2]float64) string { return fv(iv[0]) + " to " + fv(iv[1]) 
 
 // worthWords says what a prior on a proportion is worth, in elicit's
 // one phrase (elicit.WorthInTrials, with its split into successes and
-// failures), as a sentence.
+// failures written as the pages write α and β: sv), as a sentence.
 func worthWords(w elicit.PriorWorth) string {
-	return "This prior is " + w.String() + "."
+	return "This prior is " + w.Words(sv) + "."
 }
 
 // successesIn is "s successes in n trials", each in the singular at 1.

@@ -94,6 +94,18 @@ func writeJSON(w io.Writer, v any) error {
 // that it is just above 1.
 func shape(x float64) string { return strconv.FormatFloat(x, 'g', elicit.ShapeDigits(x, 6), 64) }
 
+// shapeCount writes α or β as a count of imagined successes or
+// failures: the number shape writes, in plain digits (1234570 beside
+// Beta(2, 1.23457e+06)), so that a prior's worth splits into the Beta
+// printed beside it.
+func shapeCount(x float64) string {
+	v, err := strconv.ParseFloat(shape(x), 64)
+	if err != nil {
+		return shape(x)
+	}
+	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
 // plainSig4 writes a count's mean or sd to four significant figures in
 // plain digits, as the counts beside it are: 25000, not %.4g's 2.5e+04.
 func plainSig4(x float64) string {

@@ -327,7 +327,7 @@ var criterionWords = map[string][2]string{
 
 func writePlanText(w io.Writer, o planOutput) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "prior Beta(%s, %s): mean %.4g, sd %.4g; %s\n", shape(o.Alpha), shape(o.Beta), o.PriorMean, o.PriorSD, o.Worth)
+	fmt.Fprintf(&b, "prior Beta(%s, %s): mean %.4g, sd %.4g; %s\n", shape(o.Alpha), shape(o.Beta), o.PriorMean, o.PriorSD, o.Worth.Words(shapeCount))
 	fmt.Fprintf(&b, "a study of %s gets %s%% of the weight in the posterior mean\n", countOf(o.Trials, "trial", "trials"), elicit.PercentText(o.DataShare, 3))
 	q := o.PredictivePercentiles
 	fmt.Fprintf(&b, "prior predictive number of successes in %s: mean %s, sd %s; 5%% %d, 50%% %d, 95%% %d\n",

@@ -276,7 +276,7 @@ func writePriorText(w io.Writer, o priorOutput) error {
 		fmt.Fprintf(&b, "the %s of the same interval gives Beta(%s, %s), which holds %s%% of its probability there\n", name, shape(alt.Alpha), shape(alt.Beta), elicit.PercentText(alt.CoverageAchieved, 4))
 	}
 	// The JSON's worth keeps the numbers; the words follow the bounds.
-	fmt.Fprintf(&b, "%s\n", elicit.WorthOf(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: o.Alpha, Beta: o.Beta}, Lower: o.Lower, Upper: o.Upper}))
+	fmt.Fprintf(&b, "%s\n", elicit.WorthOf(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: o.Alpha, Beta: o.Beta}, Lower: o.Lower, Upper: o.Upper}, shapeCount))
 	for _, m := range o.Warnings {
 		fmt.Fprintf(&b, "warning: %s\n", m)
 	}

@@ -363,3 +363,27 @@ func TestPoolPointsBeyondDouble(t *testing.T) {
 		t.Errorf("log pool: exit %d %s\n%s", code, errOut, out)
 	}
 }
+
+// The successes and failures a prior's worth splits into are the α and β
+// the output prints (six figures, in plain digits): 19997.4 failures
+// beside Beta(3, 19997.4), where whole counts said 19997, and 1234570
+// beside 1.23457e+06; a shape just short of 1 is not "1 success".
+func TestPriorWorthSplitsAsTheBetaIsPrinted(t *testing.T) {
+	for _, c := range []struct {
+		successes, trials string
+		beta, split       string
+	}{
+		{"3", "20000.4", "Beta(3, 19997.4)", "(3 successes and 19997.4 failures)"},
+		{"2", "1234569.6", "Beta(2, 1.23457e+06)", "(2 successes and 1234570 failures)"},
+		{"0.9999997", "5.9999997", "Beta(0.9999997, 5)", "(0.9999997 successes and 5 failures)"},
+	} {
+		code, out, errOut := runCLI(t, "", "prior", "--successes", c.successes, "--trials", c.trials)
+		if code != 0 || !strings.Contains(out, c.beta) || !strings.Contains(out, c.split) {
+			t.Errorf("prior --successes %s --trials %s: exit %d %s\n%s", c.successes, c.trials, code, errOut, out)
+		}
+		code, out, errOut = runCLI(t, "", "plan", "--alpha", c.successes, "--beta", strings.TrimPrefix(strings.TrimSuffix(c.beta, ")"), "Beta("+c.successes+", "), "--trials", "10")
+		if code != 0 || !strings.Contains(out, c.split) {
+			t.Errorf("plan for %s: exit %d %s\n%s", c.beta, code, errOut, out)
+		}
+	}
+}
