@@ -2,6 +2,7 @@ package e2e
 
 import (
 	"context"
+	"fmt"
 	"net/http"
 	"strconv"
 	"strings"
@@ -43,6 +44,7 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			}
 			fac.sees(page, "Judgements imported from an answer sheet", "1 judgement, row 2 of hx40-phone-answers-round1-final-version-2.csv (SHA-256 "+file.SHA256()+")")
 			fits(t, fac, page, width)
+			oneLineTerm(t, fac, page, width, "SHA-256")
 			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
 		}
 		// The question's history names the sheet and row beside the entry.
@@ -82,8 +84,36 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			for _, w := range []int64{390, 1366} {
 				fac.viewport(w, 900, w < 1000)
 				fits(t, fac, "sheet saved", w)
+				oneLineTerm(t, fac, "sheet saved", w, "SHA-256")
 				shots.take(fac, "sheet-saved-"+strconv.FormatInt(w, 10))
 			}
+		}
+	}
+}
+
+// oneLineTerm checks that every occurrence of term on the page stands on
+// one line: "SHA-256" broke at its hyphen in the report's log on a phone,
+// "SHA-" over "256". The words themselves must stay as written (a
+// screen reader and a copy read "SHA-256"), so the check reads the
+// page's text nodes, where a span kept them whole without changing them.
+func oneLineTerm(t *testing.T, p *person, where string, width int64, term string) {
+	t.Helper()
+	lines := eval[[]int](p, "lines of "+term, fmt.Sprintf(`(() => {
+		const out = [], term = %q, w = document.createTreeWalker(document.body, NodeFilter.SHOW_TEXT);
+		for (let n; (n = w.nextNode()); ) {
+			for (let i = n.data.indexOf(term); i >= 0; i = n.data.indexOf(term, i + 1)) {
+				const r = document.createRange(); r.setStart(n, i); r.setEnd(n, i + term.length);
+				out.push(new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size);
+			}
+		}
+		return out;
+	})()`, term))
+	if len(lines) == 0 {
+		t.Errorf("%s at %d px: no %q on the page", where, width, term)
+	}
+	for i, n := range lines {
+		if n != 1 {
+			t.Errorf("%s at %d px: %q number %d is written on %d lines", where, width, term, i+1, n)
 		}
 	}
 }

@@ -7,6 +7,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/a-h/templ"
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/fingerprint"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -454,6 +455,22 @@ func rawText(m json.RawMessage) string {
 		return t
 	}
 	return "none"
+}
+
+// wholeTerms are words a line must not break inside: "SHA-256" broke at
+// its hyphen on a phone, "SHA-" over "256".
+var wholeTerms = []string{"SHA-256"}
+
+// keptWholeHTML is s as HTML text with each of wholeTerms in a span that
+// does not wrap. The words stay as written, so a screen reader, a search
+// and a copy read "SHA-256", as they would not a non-breaking hyphen.
+func keptWholeHTML(s string) string {
+	out := templ.EscapeString(s)
+	for _, t := range wholeTerms {
+		e := templ.EscapeString(t)
+		out = strings.ReplaceAll(out, e, `<span class="nowrap">`+e+`</span>`)
+	}
+	return out
 }
 
 // rowRanges writes a sheet's row numbers with runs joined: "2–5, 7, 9–10".
