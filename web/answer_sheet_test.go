@@ -636,3 +636,41 @@ func TestSheetPreviewWarningsWriteValuesAsTyped(t *testing.T) {
 		t.Errorf("the row typed in decimals: %s", bruno)
 	}
 }
+
+// The question's panel and the report write a tail miss's value as the
+// answer was typed too: "above 9%" in the panel's warning and the
+// report's table of outer values missed, beside the stated "95%: 9%";
+// both said 0.09. The report's final judgements write the answer as its
+// revision history does, "95%: 9%", where they said "95%: 0.09".
+func TestPanelAndReportWriteATailMissAsTyped(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	q := g.qs[0]
+	for i, percent := range []bool{true, false} {
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: g.experts[i].ID, Answer: workshop.Answer{Values: []float64{0.01, 0.03, 0.09}, Percent: percent}}
+		if err := g.h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, panel := g.h.get(questionPath(g.ws.ID, q.ID))
+	_, report := g.h.get(workshopPath(g.ws.ID) + "/report")
+	for _, c := range []struct{ page, body, typed, decimal string }{
+		{"panel", panel, "of the chance above 9%, where the expert put 5%", "of the chance above 0.09, where the expert put 5%"},
+		{"report", report, "<td>Ada Quell</td><td>above 9%</td>", "<td>Bruno Ferrante</td><td>above 0.09</td>"},
+		// The report's table of final judgements, above its warnings.
+		{"report's final judgements", report, "<td>5%:\u00a01%; 50%:\u00a03%; 95%:\u00a09%</td>", "<td>5%:\u00a00.01; 50%:\u00a00.03; 95%:\u00a00.09</td>"},
+	} {
+		if !strings.Contains(c.body, c.typed) {
+			t.Errorf("%s: the answer typed in percentages lacks %q", c.page, c.typed)
+		}
+		if !strings.Contains(c.body, c.decimal) {
+			t.Errorf("%s: the answer typed in decimals lacks %q", c.page, c.decimal)
+		}
+		if n := strings.Count(c.body, "above 0.09"); n != 1 {
+			t.Errorf("%s: \"above 0.09\" %d times, want once (the decimal answer's)", c.page, n)
+		}
+		if n := strings.Count(c.body, "95%:\u00a00.09"); c.page != "panel" && n != 2 {
+			t.Errorf("%s: \"95%%: 0.09\" %d times, want twice (the decimal answer's, in the history and the final judgements)", c.page, n)
+		}
+	}
+}

@@ -20,6 +20,9 @@ type reportView struct {
 	Sheets  map[int64]workshop.SheetSource // which answer sheet and row a judgement came from
 	// Chain is the record's fingerprint chain, printed with the log.
 	Chain fingerprint.Chain
+	// Percent holds the revisions typed in percentages, whose values the
+	// report writes as typed (9%, not 0.09).
+	Percent map[int64]bool
 }
 
 func (s *Server) report(w http.ResponseWriter, r *http.Request) {
@@ -38,8 +41,12 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		v.Experts[e.ID] = e
 	}
 	revs := make([]workshop.Revision, len(rec.Revisions))
+	v.Percent = map[int64]bool{}
 	for i, rv := range rec.Revisions {
 		revs[i] = rv.Revision
+		if rv.Answer.Percent {
+			v.Percent[rv.ID] = true
+		}
 	}
 	v.Sheets = workshop.SheetSources(rec.Events, revs)
 	for _, q := range rec.Questions {

@@ -46,6 +46,7 @@ func (v reportView) fitWarningGroups(q record.Question) []warningGroup {
 		if cf.Fit == nil {
 			continue
 		}
+		outer := func(x float64) string { return typedBack(q.Question, x, v.Percent[cf.RevisionID]) }
 		for _, w := range cf.Fit.Warnings {
 			g, ok := byCode[w.Code]
 			if !ok {
@@ -55,7 +56,7 @@ func (v reportView) fitWarningGroups(q record.Question) []warningGroup {
 					unknown = append(unknown, w.Code)
 				}
 			}
-			g.add(v.name(cf.ExpertID), cf.Fit, w)
+			g.add(v.name(cf.ExpertID), cf.Fit, w, outer)
 		}
 	}
 	var out []warningGroup
@@ -82,16 +83,17 @@ func knownWarning(code string) bool {
 }
 
 // add lists one expert's warning w on fit f by its particulars: the
-// tail miss elicit worked out, or the fit's own numbers that the rule
-// read. A tail miss whose particulars a record read back does not carry
-// is listed with its message.
-func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning) {
+// tail miss elicit worked out, its outer value written by outer as the
+// expert typed it, or the fit's own numbers that the rule read. A tail
+// miss whose particulars a record read back does not carry is listed
+// with its message.
+func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning, outer func(float64) string) {
 	a, b := f.Dist.Alpha, f.Dist.Beta.Beta
 	detail := w.Message
 	switch elicit.WarningCode(w.Code) {
 	case elicit.WarnTailMisfit:
 		if m := w.Tail; m != nil {
-			g.Tails = append(g.Tails, tailRow{Expert: expert, Outer: m.Side() + " " + fv(m.Value),
+			g.Tails = append(g.Tails, tailRow{Expert: expert, Outer: m.Side() + " " + outer(m.Value),
 				Stated: elicit.ChanceText(m.Stated), Fitted: elicit.ChanceText(m.Fitted), Ratio: m.RatioText()})
 			return
 		}

@@ -120,7 +120,7 @@ func TestPoorFitGapReadsAboveTheLimit(t *testing.T) {
 // The final-judgement table's stated values keep each probability with
 // its value when a phone's narrow column wraps them.
 func TestStatedLineKeepsPairsTogether(t *testing.T) {
-	got := statedLine(&record.Fit{Probs: []float64{0.05, 0.5, 0.95}, Stated: []float64{0.02, 0.06, 0.2}})
+	got := statedLine(&record.Fit{Probs: []float64{0.05, 0.5, 0.95}, Stated: []float64{0.02, 0.06, 0.2}}, false)
 	if want := "5%:\u00a00.02; 50%:\u00a00.06; 95%:\u00a00.2"; got != want {
 		t.Errorf("statedLine = %q, want %q", got, want)
 	}
