@@ -41,7 +41,7 @@ import (
 //	GET  /w/{workshop}/q/{question}/history  the question's whole revision history
 //	GET  /w/{workshop}/q/{question}/room     the anonymised panel for the projector
 //	GET  /w/{workshop}/q/{question}/enter/{expert}      enter a judgement on the expert's behalf (facilitator_entry.go)
-//	POST /w/{workshop}/q/{question}/enter/{expert}/preview|save
+//	POST /w/{workshop}/q/{question}/enter/{expert}/preview|save  (the preview, which saves nothing, also in an archived workshop)
 //	POST /w/{workshop}/q/{question}/weights  scheme=equal|custom, weights[ID], reason
 //	POST /w/{workshop}/q/{question}/agree    source=pool|consensus, values in the question's format, rationale
 //	GET  /w/{workshop}/report                printable record

@@ -3,6 +3,7 @@ package web
 import (
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/go-chi/chi/v5"
 
@@ -102,7 +103,10 @@ func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 
 // archivedGuard refuses every change to an archived workshop except
 // bringing it back (and deleting it, which the store refuses anyway when
-// it has answers): an archived workshop's record is finished.
+// it has answers): an archived workshop's record is finished. The entry
+// page's fit preview goes through: it draws the fit and saves nothing,
+// as the expert's own page of an archived workshop still lets them try
+// the fit.
 func (s *Server) archivedGuard(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		if r.Method != http.MethodPost {
@@ -115,11 +119,22 @@ func (s *Server) archivedGuard(next http.Handler) http.Handler {
 			return
 		}
 		ws, err := s.store.Workshop(r.Context(), id)
-		if err != nil || !ws.Archived || r.URL.Path == workshopPath(id)+"/archive" {
+		if err != nil || !ws.Archived || r.URL.Path == workshopPath(id)+"/archive" || entryPreviewPath(id, r.URL.Path) {
 			next.ServeHTTP(w, r)
 			return
 		}
 		s.renderPage(w, r, http.StatusConflict, facilitatorMeta(ws, "Archived", "overview"),
 			messagePage("This workshop is archived", "Nothing in an archived workshop can be changed, so nothing was saved. To change it, bring it back from its overview page first; that is recorded in the decision log."))
 	})
+}
+
+// entryPreviewPath reports whether path is an entry page's fit preview,
+// /w/{workshop}/q/{question}/enter/{expert}/preview, which saves nothing.
+func entryPreviewPath(ws int64, path string) bool {
+	rest, ok := strings.CutPrefix(path, workshopPath(ws)+"/q/")
+	if !ok {
+		return false
+	}
+	parts := strings.Split(rest, "/")
+	return len(parts) == 4 && parts[1] == "enter" && parts[3] == "preview"
 }
