@@ -49,3 +49,71 @@ func TestArchivedEntryPageShowsTheFit(t *testing.T) {
 		t.Errorf("%d revisions saved in an archived workshop", len(after)-len(before))
 	}
 }
+
+// The entry page said "You are entering this judgement on … behalf" for
+// an expert whose access was revoked, in an archived workshop and on a
+// question whose answers are final, where nothing can be entered. Each
+// case now says what the page holds, and the revoked one why.
+func TestEntryPageSaysWhenNothingCanBeEntered(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	q := qs[0]
+	priya := es[2]
+	entry := entryPath(ws.ID, q.ID, priya.ID)
+	const entering = "You are entering this judgement on Priya Raman's behalf"
+	const holds = "What Priya Raman saved on this question, and anything you entered for them, is in the history below."
+	read := func(path string) string {
+		t.Helper()
+		_, page := h.get(path)
+		return html.UnescapeString(page)
+	}
+	if page := read(entry); !strings.Contains(page, entering) || strings.Contains(page, holds) {
+		t.Fatal("the entry page of an open round does not say the facilitator is entering the judgement")
+	}
+	// A closed round opens again: the page is still where it is entered.
+	if err := h.db.SetRound(ctx, ws.ID, ws.Round, false, "Break (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if page := read(entry); !strings.Contains(page, entering) {
+		t.Error("the entry page of a closed round no longer says what it is for")
+	}
+
+	final := qs[1] // a calibration question
+	if err := h.db.SetTrueValue(ctx, final.ID, *final.TrueValue, true, "Shown (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	for _, path := range []string{entryPath(ws.ID, final.ID, priya.ID), entryPath(ws.ID, final.ID, es[0].ID)} {
+		if page := read(path); strings.Contains(page, "You are entering this judgement") {
+			t.Errorf("%s, answers final: the page says the facilitator is entering the judgement", path)
+		}
+	}
+
+	if err := h.db.RevokeExpert(ctx, priya.ID, "Left the panel (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	page := read(entry)
+	if strings.Contains(page, entering) || !strings.Contains(page, "Priya Raman's access is revoked, so nothing can be entered on their behalf.") ||
+		strings.Contains(page, "is in the history below") {
+		t.Error("the entry page of a revoked expert, who saved nothing, does not say that nothing can be entered for them alone")
+	}
+	if strings.Count(page, "access is revoked") != 2 { // the sentence and the preview's invitation
+		t.Errorf("the entry page of a revoked expert says %d times that their access is revoked", strings.Count(page, "access is revoked"))
+	}
+	// The demo's Ines Varga answered.
+	if err := h.db.RevokeExpert(ctx, es[0].ID, "Left the panel (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	page = read(entryPath(ws.ID, q.ID, es[0].ID))
+	if !strings.Contains(page, "Ines Varga's access is revoked, so nothing can be entered on their behalf. "+
+		"What they saved on this question, and anything you entered for them, is in the history below.") {
+		t.Error("the entry page of a revoked expert who answered does not say what its history holds")
+	}
+
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	page = read(entryPath(ws.ID, q.ID, es[1].ID))
+	if strings.Contains(page, "You are entering this judgement") || !strings.Contains(page, "What Tomas Lindqvist saved on this question") {
+		t.Error("the archived workshop's entry page says the facilitator is entering the judgement")
+	}
+}
