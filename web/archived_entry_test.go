@@ -5,6 +5,7 @@ import (
 	"html"
 	"net/http"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -116,4 +117,42 @@ func TestEntryPageSaysWhenNothingCanBeEntered(t *testing.T) {
 	if strings.Contains(page, "You are entering this judgement") || !strings.Contains(page, "What Tomas Lindqvist saved on this question") {
 		t.Error("the archived workshop's entry page says the facilitator is entering the judgement")
 	}
+}
+
+// An empty history said "No saved answers yet." on the expert's page and
+// the entry page even where no answer will come: on a question whose
+// answers are final and in an archived workshop. There it now says that
+// no answer was saved; in an open or a closed round it still says "yet".
+func TestEmptyHistorySaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ctx := context.Background()
+	priya := es[2] // the demo's Priya Raman has answered nothing
+	own := func(q int64) string { return links[2].Path + "q/" + strconv.FormatInt(q, 10) }
+	const yet, none = "No saved answers yet.", "No answer was saved."
+	check := func(when, want string, qids ...int64) {
+		t.Helper()
+		for _, q := range qids {
+			for _, path := range []string{own(q), entryPath(ws.ID, q, priya.ID)} {
+				_, page := h.get(path)
+				if !strings.Contains(page, want) || strings.Contains(page, map[string]string{yet: none, none: yet}[want]) {
+					t.Errorf("%s, %s: the empty history does not say %q alone", path, when, want)
+				}
+			}
+		}
+	}
+	open, final := qs[0].ID, qs[1].ID // qs[1] is a calibration question
+	check("round open", yet, open, final)
+	if err := h.db.SetTrueValue(ctx, final, *qs[1].TrueValue, true, "Shown (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	check("round open", yet, open)
+	check("answers final", none, final)
+	if err := h.db.SetRound(ctx, ws.ID, ws.Round, false, "Break (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	check("round closed", yet, open)
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	check("archived", none, open, final)
 }

@@ -112,6 +112,16 @@ type expertQuestionView struct {
 // gave none: the form shows a sentence, not empty inputs locked.
 func (v expertQuestionView) finalWithoutAnswer() bool { return v.Frozen && v.Unanswered }
 
+// noHistory is what an empty history says: "yet" only where an answer
+// may still come, not on a question whose answers are final or in an
+// archived workshop.
+func (v expertQuestionView) noHistory() string {
+	if v.Frozen || v.Finished {
+		return "No answer was saved."
+	}
+	return "No saved answers yet."
+}
+
 // noAnswerSentence says, in the answer form's place, that no answer was given.
 func (v expertQuestionView) noAnswerSentence() string {
 	if v.OnBehalf != nil {
