@@ -16,6 +16,10 @@ import (
 // doneCookie carries what the form saved to the page it leads to.
 const doneCookie = "parley_done"
 
+// doneSaved confirms an answer saved, on its question's page: the
+// expert's own, or the facilitator's entry page for the expert.
+const doneSaved = "saved"
+
 // doneLife bounds how long a confirmation waits for its page: the
 // redirect is followed at once.
 const doneLife = 60 // seconds

@@ -3,6 +3,7 @@ package web
 import (
 	"net/http"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -69,4 +70,85 @@ func TestPanelConfirmsASaveOnce(t *testing.T) {
 	if shows(restored) {
 		t.Error("the panel reloaded says again that the question is back")
 	}
+}
+
+// "Saved." on the expert's page, and the saved banner on the
+// facilitator's entry page, rode in the address (?saved=1): a reload, or
+// the address kept in a tab, said again that the answer was saved. They
+// are now said once, on the page the save leads to, without a script;
+// the same form sent twice (a double click, a browser's retry) is saved
+// once and still says so once.
+func TestSavedIsSaidOnce(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ex := newHarnessOn(t, h) // the expert's own browser
+	q := qs[0]
+	priya := es[2] // the demo's Priya Raman has answered nothing
+	for _, c := range []struct {
+		who, page, saved string
+		b                *harness
+		form             url.Values
+	}{
+		{"the expert's page", strings.TrimSuffix(links[2].Path, "/") + "/q/" + strconv.FormatInt(q.ID, 10),
+			"Saved. Your answer is recorded", ex,
+			url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}, "reason": {"Field returns (invented)."}}},
+		{"the entry page", entryPath(ws.ID, q.ID, priya.ID), "Saved for Priya Raman as a new revision", h,
+			url.Values{"channel": {"phone"}, "values[0]": {"0.01"}, "values[1]": {"0.04"}, "values[2]": {"0.10"}}},
+	} {
+		at := c.page // as the browser is sent to it, and reloads it
+		shows := func(when string) bool {
+			t.Helper()
+			res, page := c.b.get(at)
+			if res.StatusCode != http.StatusOK {
+				t.Fatalf("%s, %s: %d", c.who, when, res.StatusCode)
+			}
+			return strings.Contains(page, c.saved)
+		}
+		if shows("before saving") {
+			t.Errorf("%s says it saved before anything was", c.who)
+		}
+		for _, twice := range []bool{false, true} {
+			_, page := c.b.get(c.page)
+			c.form.Set(onceName, keyOf(t, page, c.page+"/preview"))
+			if twice {
+				// The first copy's answer never reaches the browser,
+				// which follows the second's.
+				if r := postLost(t, c.b, c.page+"/save", c.form); r.StatusCode != http.StatusSeeOther {
+					t.Fatalf("%s, the first copy: %d", c.who, r.StatusCode)
+				}
+			}
+			{
+				r, body := c.b.post(c.page+"/save", c.form)
+				if at = r.Header.Get("Location"); r.StatusCode != http.StatusSeeOther || !strings.HasPrefix(at, c.page) {
+					t.Fatalf("%s, save: %d to %q, want 303 to the page\n%s", c.who, r.StatusCode, at, body)
+				}
+			}
+			if !shows("after saving") {
+				t.Errorf("%s (form sent twice: %v) does not say the answer was saved", c.who, twice)
+			}
+			if shows("reloaded") {
+				t.Errorf("%s (form sent twice: %v), reloaded, says again that the answer was saved", c.who, twice)
+			}
+		}
+	}
+}
+
+// postLost sends a form from b's browser, with its cookies, whose answer
+// the browser never sees: the first copy of a form sent twice.
+func postLost(t *testing.T, b *harness, path string, v url.Values) *http.Response {
+	t.Helper()
+	req, err := http.NewRequest(http.MethodPost, b.ts.URL+path, strings.NewReader(v.Encode()))
+	if err != nil {
+		t.Fatal(err)
+	}
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", b.ts.URL)
+	for _, c := range b.client.Jar.Cookies(req.URL) {
+		req.AddCookie(c)
+	}
+	res, err := (&http.Client{CheckRedirect: b.client.CheckRedirect}).Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Body.Close()
+	return res
 }

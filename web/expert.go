@@ -519,6 +519,11 @@ func (s *Server) expertRoutes(r chi.Router) {
 
 func expertBase(r *http.Request) string { return "/e/" + chi.URLParam(r, "token") }
 
+// expertQuestionPath is the expert's page of question q.
+func expertQuestionPath(r *http.Request, q int64) string {
+	return expertBase(r) + "/q/" + strconv.FormatInt(q, 10)
+}
+
 const timeLayout = "2006-01-02 15:04 UTC"
 
 // frozenMessage answers a save to a calibration question whose true value
@@ -629,7 +634,7 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	}
 	v := s.questionView(r, sc, typed, "")
 	v.Preview = preview
-	v.Saved = r.URL.Query().Get("saved") == "1"
+	v.Saved = s.takeConfirmation(w, r, expertQuestionPath(r, sc.question.ID), doneSaved) == doneSaved
 	if v.Saved {
 		if err := s.nextUnanswered(r, sc, &v); err != nil {
 			s.fail(w, r, err)
@@ -783,7 +788,11 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	s.live.publishEvent(sc.workshop.ID, liveEvent{Kind: "save", Question: sc.question.ID, At: rev.At})
-	http.Redirect(w, r, expertBase(r)+"/q/"+strconv.FormatInt(sc.question.ID, 10)+"?saved=1", http.StatusSeeOther)
+	// "Saved." is said once, on the page the save leads to: a reload does
+	// not say it again (confirm_once.go).
+	page := expertQuestionPath(r, sc.question.ID)
+	s.confirmOnce(w, r, page, doneSaved)
+	http.Redirect(w, r, page, http.StatusSeeOther)
 }
 
 func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status int, sc expertScope, v expertQuestionView) {

@@ -140,7 +140,7 @@ func TestExpertPageWording(t *testing.T) {
 		t.Error("the home page does not show the caution in full")
 	}
 	r, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.02", "0.05", "0.12"))
-	_, page = g.get(r.Header.Get("Location"))
+	_, page = g.getWith(r.Header.Get("Location"), r.Cookies())
 	if !strings.Contains(page, "Why you revised, or your reasoning (optional)") {
 		t.Error("after a first answer the box is not about revising")
 	}

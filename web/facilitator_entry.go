@@ -109,7 +109,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	}
 	v := s.entryView(sc, own, typed, "", string(channel))
 	v.Form.Preview = preview
-	v.Saved = r.URL.Query().Get("saved") == "1"
+	v.Saved = s.takeConfirmation(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID), doneSaved) == doneSaved
 	s.renderEntry(w, r, http.StatusOK, v)
 }
 
@@ -281,7 +281,11 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		s.entryAgain(w, r, sc, f, http.StatusConflict, notice, newPreviewPtr(sc.q, fit, a.Percent, sc.speaker()))
 		return
 	}
-	http.Redirect(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)+"?saved=1", http.StatusSeeOther)
+	// The saved banner is shown once, on the page the save leads to
+	// (confirm_once.go).
+	page := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
+	s.confirmOnce(w, r, page, doneSaved)
+	http.Redirect(w, r, page, http.StatusSeeOther)
 }
 
 func newPreviewPtr(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *previewView {
