@@ -118,6 +118,27 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	if cut := eval[[]string](p, "own history's cells", fmt.Sprintf(`Array.from(document.querySelectorAll(".table-mine td, .table-fits td")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > %d + 0.5).slice(0, 3).map(e => e.textContent.trim())`, width)); len(cut) > 0 {
 		t.Errorf("%s at %d px: a table's cells run past the screen: %q", where, width, cut)
 	}
+	// What the page's width skips above must be reachable in its own box:
+	// every part of a table or picture in a box that scrolls lies within
+	// the box's scrolling reach. A box that scrolls for its table
+	// (.table-scroll, .map-scroll, the region a keyboard reaches) holds
+	// all of it; on a phone the answer sheet's preview had a table that
+	// scrolled inside such a box, which kept the screen's width, and the
+	// columns past the edge were out of the box's reach.
+	if out := eval[[]string](p, "scroll boxes' reach", `(() => {
+		const out = [];
+		for (const box of document.querySelectorAll(".table-scroll, .map-scroll, .table, .chart-table")) {
+			if (!box.getClientRects().length) continue;
+			const own = box.matches(".table-scroll, .map-scroll");
+			if (!own && !["auto", "scroll"].includes(getComputedStyle(box).overflowX)) continue;
+			const b = box.getBoundingClientRect(), reach = b.left + box.clientLeft - box.scrollLeft + box.scrollWidth + 1;
+			const cut = Array.from(box.querySelectorAll("*")).filter(e => e.getClientRects().length && e.getBoundingClientRect().right > reach);
+			if (cut.length) out.push((box.getAttribute("aria-label") || box.className) + ": " + (cut[cut.length - 1].textContent.trim().slice(0, 40) || cut[cut.length - 1].tagName) + " reaches " + Math.round(cut[cut.length - 1].getBoundingClientRect().right) + " px, the box scrolls to " + Math.round(reach) + " px");
+		}
+		return out;
+	})()`); len(out) > 0 {
+		t.Errorf("%s at %d px: content out of its scroll box's reach: %q", where, width, out)
+	}
 	oneLineTimes(t, p, fmt.Sprintf("%s at %d px", where, width), false)
 	// On a phone a history (the expert's own, and the one on the
 	// facilitator's entry page) is a block of labelled lines per save: the
