@@ -45,6 +45,7 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			fac.sees(page, "Judgements imported from an answer sheet", "1 judgement, row 2 of hx40-phone-answers-round1-final-version-2.csv (SHA-256 "+file.SHA256()+")")
 			fits(t, fac, page, width)
 			oneLineTerm(t, fac, page, width, "SHA-256")
+			logReadsWhole(t, fac, page, width)
 			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
 		}
 		// The question's history names the sheet and row beside the entry.
@@ -115,5 +116,39 @@ func oneLineTerm(t *testing.T, p *person, where string, width int64, term string
 		if n != 1 {
 			t.Errorf("%s at %d px: %q number %d is written on %d lines", where, width, term, i+1, n)
 		}
+	}
+}
+
+// logReadsWhole checks the decision log (its own page's, or the report's
+// copy) reads at the person's width: on a phone each decision is a block
+// of lines, not cells side by side, and no word breaks over lines (a
+// break after a hyphen is a break between words; the 64 figures of a
+// SHA-256 may break). The report's copy was a table on a phone, its
+// detail squeezed until "judgement" read "judge" over "ment".
+func logReadsWhole(t *testing.T, p *person, where string, width int64) {
+	t.Helper()
+	const log = `(() => {
+		const h = Array.from(document.querySelectorAll("h1, h2")).find(h => h.textContent.trim() === "Decision log");
+		return (h.closest("section") || document).querySelector("table");
+	})()`
+	if width < 600 {
+		if side := eval[int](p, "the log's rows", `Array.from(`+log+`.tBodies[0].rows).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+			t.Errorf("%s at %d px: %d of the log's decisions lay their cells side by side", where, width, side)
+		}
+	}
+	broken := eval[[]string](p, "the log's words", `(() => {
+		const out = [], w = document.createTreeWalker(`+log+`, NodeFilter.SHOW_TEXT);
+		for (let n; (n = w.nextNode()); ) {
+			for (const m of n.data.matchAll(/[^\s\-\u2010-\u2014]+/g)) {
+				if (m[0].length > 40) continue;
+				const r = document.createRange(); r.setStart(n, m.index); r.setEnd(n, m.index + m[0].length);
+				const lines = Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top));
+				if (new Set(lines).size > 1) out.push(m[0]);
+			}
+		}
+		return out.slice(0, 6);
+	})()`)
+	if len(broken) > 0 {
+		t.Errorf("%s at %d px: the log breaks words over lines: %q", where, width, broken)
 	}
 }
