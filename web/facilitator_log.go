@@ -117,13 +117,19 @@ func enteredOnBehalf(evs []workshop.Event, revs []workshop.Revision) []workshop.
 
 // entryRow is the log's line for a judgement the facilitator entered on
 // an expert's behalf: the question it answers, whose it is, the round,
-// how it reached the facilitator, and the reason given with it.
+// how it reached the facilitator, and the reason saved with it. That
+// reason is the expert's reasoning, not the facilitator's for a decision
+// as in the column's other lines, and says so.
 func (w eventWriter) entryRow(rv workshop.Revision) logRow {
+	reason := "—"
+	if rv.Reason != "" {
+		reason = w.expert(rv.ExpertID) + "'s reasoning, entered with the judgement: “" + rv.Reason + "”"
+	}
 	return logRow{
 		When:      rv.At.UTC().Format("2006-01-02 15:04:05 UTC"),
 		Decision:  "Judgement entered on an expert's behalf",
 		AppliesTo: w.question(rv.QuestionID),
-		Reason:    orDash(rv.Reason),
+		Reason:    reason,
 		Detail: w.expert(rv.ExpertID) + "'s judgement for round " + strconv.Itoa(rv.Round) +
 			", entered by the facilitator " + channelRecorded(rv.Channel) + ".",
 	}

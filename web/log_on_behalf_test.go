@@ -67,7 +67,10 @@ func TestDecisionLogShowsAnEntryOnAnExpertsBehalf(t *testing.T) {
 		}
 		row := body[strings.LastIndex(body[:at], "<tr"):]
 		row = row[:strings.Index(row, "</tr>")]
-		for _, want := range []string{when, "Q1 " + html.EscapeString(q.Quantity), html.EscapeString(reason), html.EscapeString(detail)} {
+		// The reason saved with the judgement is the expert's reasoning,
+		// labelled so that it does not read as the facilitator's reason
+		// for a decision, as the column holds on every other line.
+		for _, want := range []string{when, "Q1 " + html.EscapeString(q.Quantity), html.EscapeString("Priya Raman's reasoning, entered with the judgement: “" + reason + "”"), html.EscapeString(detail)} {
 			if !strings.Contains(row, want) {
 				t.Errorf("%s: the entry's line lacks %q: %s", name, want, row)
 			}
