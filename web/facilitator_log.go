@@ -64,7 +64,9 @@ func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Questi
 		w.questions[q.ID] = q
 	}
 	closes := c.RoundCloses()
-	entries := enteredOnBehalf(evs, revs)
+	sheets := workshop.SheetSources(evs, revs)
+	w.sheetQuestions = sheetQuestions(sheets, w.revisions)
+	entries := enteredOnBehalf(sheets, revs)
 	v := logView{Workshop: ws, Rows: make([]logRow, 0, len(evs)+len(entries)), Fingerprint: c.Head().Short()}
 	for _, e := range evs {
 		// An entry before the event, or at its very time, comes first, as
@@ -96,10 +98,10 @@ func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Questi
 // enteredOnBehalf are the judgements the facilitator entered one at a
 // time on an expert's behalf, oldest first. Such an entry is a decision
 // the store keeps in the revision itself (entered_by, channel), without
-// an event of its own; the judgements of an answer sheet have their
-// sheet's event (workshop.SheetSources) and its one line instead.
-func enteredOnBehalf(evs []workshop.Event, revs []workshop.Revision) []workshop.Revision {
-	sheets := workshop.SheetSources(evs, revs)
+// an event of its own; the judgements of an answer sheet (sheets, by
+// workshop.SheetSources) have their sheet's event and its one line
+// instead.
+func enteredOnBehalf(sheets map[int64]workshop.SheetSource, revs []workshop.Revision) []workshop.Revision {
 	var out []workshop.Revision
 	for _, rv := range revs {
 		if _, fromSheet := sheets[rv.ID]; rv.EnteredBy == workshop.ByFacilitator && !fromSheet {
@@ -212,6 +214,24 @@ type eventWriter struct {
 	// revisions name the expert and round of a withheld reason, as the
 	// panel's list does where it was withheld.
 	revisions map[int64]workshop.Revision
+	// sheetQuestions are the questions each answer sheet's judgements
+	// answer, by the ID of the sheet's event.
+	sheetQuestions map[int64][]int64
+}
+
+// sheetQuestions are the questions the judgements of each answer sheet
+// answer, each once, by the ID of the sheet's event.
+func sheetQuestions(sheets map[int64]workshop.SheetSource, revs map[int64]workshop.Revision) map[int64][]int64 {
+	out := map[int64][]int64{}
+	seen := map[[2]int64]bool{}
+	for id, src := range sheets {
+		rv, ok := revs[id]
+		if key := [2]int64{src.Event, rv.QuestionID}; ok && !seen[key] {
+			seen[key] = true
+			out[src.Event] = append(out[src.Event], rv.QuestionID)
+		}
+	}
+	return out
 }
 
 // prior is the agreed prior that event e recorded: the store writes the
@@ -226,13 +246,45 @@ func (w eventWriter) prior(e workshop.Event) (workshop.AgreedPrior, bool) {
 }
 
 // appliesTo is the question an event concerns, or the expert for the
-// roster's events, else the whole workshop.
+// roster's events, the questions an answer sheet's judgements answer,
+// else the whole workshop.
 func (w eventWriter) appliesTo(e workshop.Event) string {
+	if e.Kind == workshop.EventAnswersImported && e.QuestionID == 0 {
+		return w.questionsOf(w.sheetQuestions[e.ID])
+	}
 	var d eventDetail
 	if e.QuestionID == 0 && e.Detail != "" && json.Unmarshal([]byte(e.Detail), &d) == nil && d.ExpertID != 0 {
 		return w.expert(d.ExpertID)
 	}
 	return w.question(e.QuestionID)
+}
+
+// questionsOf names one question as question does, and several by their
+// numbers in order: "3 questions: Q1, Q2 and Q5".
+func (w eventWriter) questionsOf(ids []int64) string {
+	switch len(ids) {
+	case 0:
+		return "the questions its judgements answer"
+	case 1:
+		return w.question(ids[0])
+	}
+	qs := make([]workshop.Question, len(ids))
+	for i, id := range ids {
+		if q, ok := w.questions[id]; ok {
+			qs[i] = q
+		} else {
+			qs[i] = workshop.Question{ID: id}
+		}
+	}
+	sort.SliceStable(qs, func(i, j int) bool { return qs[i].Position < qs[j].Position })
+	names := make([]string, len(qs))
+	for i, q := range qs {
+		names[i] = "Q" + strconv.Itoa(q.Position)
+		if q.Position == 0 {
+			names[i] = "question " + strconv.FormatInt(q.ID, 10)
+		}
+	}
+	return strconv.Itoa(len(names)) + " questions: " + strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1]
 }
 
 func (w eventWriter) question(id int64) string {

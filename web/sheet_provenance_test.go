@@ -298,3 +298,27 @@ func TestSheetRowLabel(t *testing.T) {
 		}
 	}
 }
+
+// An answer sheet's line in the decision log says which questions its
+// judgements answer: one by its number and quantity, several by their
+// numbers. It said "whole workshop", as for a decision about no question
+// in particular.
+func TestSheetLineNamesItsQuestions(t *testing.T) {
+	g := newSheetRig(t)
+	g.uploadSheet(t, "one.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n", "paper_form")
+	g.uploadSheet(t, "two.csv", "expert,question,q05,q50,q95,lowest,highest,best,confidence\nChiara Osei,Q2,,,,0.05,0.3,0.12,80\nChiara Osei,Q1,0.02,0.06,0.15,,,,\nAda Quell,Q2,,,,0.1,0.4,0.2,70\n", "message")
+	for _, page := range []string{"/log", "/report"} {
+		_, body := g.h.get(workshopPath(g.ws.ID) + page)
+		for file, want := range map[string]string{"one.csv": "Q1 wall loss share", "two.csv": "2 questions: Q1 and Q2"} {
+			at := strings.Index(body, " of "+file+" (")
+			if at < 0 {
+				t.Fatalf("%s: no line for %s", page, file)
+			}
+			row := body[strings.LastIndex(body[:at], "<tr"):at]
+			cells := regexp.MustCompile(`<td[^>]*>([^<]*)</td>`).FindAllStringSubmatch(row, -1)
+			if len(cells) < 3 || cells[1][1] != "Judgements imported from an answer sheet" || cells[2][1] != want {
+				t.Errorf("%s: %s's line applies to %q, want %q: %s", page, file, cells[2][1], want, row)
+			}
+		}
+	}
+}

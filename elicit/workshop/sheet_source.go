@@ -12,6 +12,8 @@ type SheetSource struct {
 	Name   string
 	SHA256 string
 	Row    int
+	// Event is the ID of the sheet's EventAnswersImported event.
+	Event int64
 }
 
 // SheetSources finds, for each revision that came from an answer sheet,
@@ -54,7 +56,7 @@ func SheetSources(events []Event, revisions []Revision) map[int64]SheetSource {
 			out = map[int64]SheetSource{}
 		}
 		for i, id := range ids {
-			out[id] = SheetSource{Name: imp.Name, SHA256: imp.SHA256, Row: imp.Rows[i]}
+			out[id] = SheetSource{Name: imp.Name, SHA256: imp.SHA256, Row: imp.Rows[i], Event: ev.ID}
 		}
 	}
 	return out

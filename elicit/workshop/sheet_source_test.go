@@ -18,17 +18,17 @@ func TestSheetSources(t *testing.T) {
 		{ID: 13, At: at.Add(time.Hour), EnteredBy: ByFacilitator, Channel: ChannelFile},
 	}
 	events := []Event{
-		{Kind: EventAnswersImported, At: at, Detail: `{"sha256":"aa","name":"old.csv","rows":[2,4],"channel":"paper_form"}`},
-		{Kind: EventAnswersImported, At: at.Add(time.Hour), Detail: `{"sha256":"bb","rows":[3,2],"channel":"file","revisions":[12,13]}`},
-		{Kind: EventAnswersImported, At: at.Add(2 * time.Hour), Detail: `{"sha256":"cc","rows":[2],"channel":"file"}`}, // no revisions of its time
+		{ID: 1, Kind: EventAnswersImported, At: at, Detail: `{"sha256":"aa","name":"old.csv","rows":[2,4],"channel":"paper_form"}`},
+		{ID: 2, Kind: EventAnswersImported, At: at.Add(time.Hour), Detail: `{"sha256":"bb","rows":[3,2],"channel":"file","revisions":[12,13]}`},
+		{ID: 3, Kind: EventAnswersImported, At: at.Add(2 * time.Hour), Detail: `{"sha256":"cc","rows":[2],"channel":"file"}`}, // no revisions of its time
 		{Kind: EventRoundClosed, At: at},
 	}
 	got := SheetSources(events, revs)
 	want := map[int64]SheetSource{
-		7:  {Name: "old.csv", SHA256: "aa", Row: 2},
-		8:  {Name: "old.csv", SHA256: "aa", Row: 4},
-		12: {SHA256: "bb", Row: 3},
-		13: {SHA256: "bb", Row: 2},
+		7:  {Name: "old.csv", SHA256: "aa", Row: 2, Event: 1},
+		8:  {Name: "old.csv", SHA256: "aa", Row: 4, Event: 1},
+		12: {SHA256: "bb", Row: 3, Event: 2},
+		13: {SHA256: "bb", Row: 2, Event: 2},
 	}
 	if len(got) != len(want) {
 		t.Fatalf("SheetSources = %v, want %v", got, want)
