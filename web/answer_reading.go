@@ -277,6 +277,14 @@ func typedBack(q workshop.Question, v float64, percent bool) string {
 	return chart.FormatWithin(v, q.Lower, q.Upper, percent)
 }
 
+// fittedAsTyped writes a fit's value (its 5%, 50% or 95% point) beside
+// the answer it was fitted to, in that answer's terms: as a percentage
+// for an answer typed in percentages, as the expert's own history writes
+// it, so that "95%: 9%" does not stand beside a fitted 0.07222.
+func fittedAsTyped(q workshop.Question, x float64, percent bool) string {
+	return typedBack(q, x, percent && q.ValuesInPercent())
+}
+
 // confidenceBack writes a four-value confidence as typed, a percentage
 // short of 100% however close to it.
 func confidenceBack(c float64) string { return chart.FormatWithin(c, 0, 1, true) }
