@@ -77,6 +77,18 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 		fac.load("check the sheet", chromedp.Click(chromedp.CSS(`form[enctype="multipart/form-data"] button[type=submit]`)))
 		fac.sees("sheet preview", "Nothing is saved yet", "1 row follows an answer the expert saved themselves", "Ines Varga's own answer of ")
 		fits(t, fac, "sheet preview", width)
+		oneLineTimes(t, fac, "sheet preview", true)
+		if width < 600 {
+			// On a phone each row is a block of labelled lines: as eight
+			// columns in a box scrolled sideways, the Follows column the
+			// warning above points to was a word wide.
+			if side := eval[int](fac, "the preview's rows", `Array.from(document.querySelectorAll("#sheet-rows tbody tr")).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+				t.Errorf("sheet preview at %d px: %d rows lay their cells side by side", width, side)
+			}
+			if bare := eval[[]string](fac, "the preview's labels", `Array.from(document.querySelectorAll("#sheet-rows tbody td")).filter(c => c.getClientRects().length && !c.dataset.label).map(c => c.innerText.trim())`); len(bare) > 0 {
+				t.Errorf("sheet preview at %d px: cells without a label: %q", width, bare)
+			}
+		}
 		shots.take(fac, "sheet-preview-"+strconv.FormatInt(width, 10))
 		if width == 390 {
 			// Saved: the overview says what, with the file's SHA-256.

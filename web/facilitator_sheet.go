@@ -4,7 +4,6 @@ import (
 	"errors"
 	"io"
 	"net/http"
-	"strconv"
 	"strings"
 	"time"
 
@@ -58,14 +57,13 @@ func (v sheetView) replacesOwn() int {
 	return n
 }
 
-// replacedLabel says what a row's judgement follows: "Ada Quell's own
-// answer of 2026-12-03 04:28 UTC (round 1)".
-func replacedLabel(row answersheet.Row, rv workshop.Revision) string {
-	who := row.Expert.Name + "'s own answer"
+// replacedWho is whose judgement a row follows, "Ada Quell's own answer"
+// or "your entry"; the preview adds its time and round.
+func replacedWho(row answersheet.Row, rv workshop.Revision) string {
 	if rv.EnteredBy == workshop.ByFacilitator {
-		who = "your entry"
+		return "your entry"
 	}
-	return who + " of " + rv.At.UTC().Format(timeLayout) + " (round " + strconv.Itoa(rv.Round) + ")"
+	return row.Expert.Name + "'s own answer"
 }
 
 // sheetHeader is a header naming every column the questions use, in the

@@ -249,7 +249,7 @@ func TestSheetPreviewSaysWhatARowFollows(t *testing.T) {
 	if !strings.Contains(body, ">Save these judgements<") {
 		t.Error("a sheet of two rows is not 'Save these judgements'")
 	}
-	text := html.UnescapeString(body)
+	text := html.UnescapeString(stripTags(body))
 	for _, want := range []string{
 		"1 row follows an answer the expert saved themselves",
 		"Ada Quell's own answer of " + own.At.UTC().Format(timeLayout) + " (round 1)",
