@@ -2372,7 +2372,7 @@ func calibrationWeightsForm(v calibrationView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.WeightsForm, "reason", "Reason for these weights (required)", "Recorded in the decision log. Weights apply to every question of the workshop.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.WeightsForm, "reason", "Reason for these weights", "Recorded in the decision log. Weights apply to every question of the workshop.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

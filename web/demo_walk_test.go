@@ -200,11 +200,32 @@ func TestUnshownTrueValuesCountedAlike(t *testing.T) {
 // TestQuestionFormMarksTheWordingRequiredAsTheOthers: the question form
 // marked its quantity "(required)" beside the label, as every other form
 // does, but its wording by a hint starting "Required." under the box.
+// And every form marks a required field the same way: a one-line field
+// wrote "(required)" in quieter type after its name, a text box wrote it
+// in the label's own bold, so "Quantity (required)" and "Wording the
+// experts read (required)" looked like two kinds of rule.
 func TestQuestionFormMarksTheWordingRequiredAsTheOthers(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
-	for _, path := range []string{workshopPath(ws.ID) + "/questions/new", workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/edit"} {
+	label := regexp.MustCompile(`(?s)<label[^>]*>(.*?)</label>`)
+	const mark = `<span class="required">(required)</span>`
+	q := workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	for _, path := range []string{workshopPath(ws.ID) + "/questions/new", q + "/edit", q, workshopPath(ws.ID), workshopPath(ws.ID) + "/calibration", "/"} {
 		_, body := h.get(path)
-		if !strings.Contains(body, "Wording the experts read (required)") || strings.Contains(body, "Required. Ask about") {
+		n, wording := 0, false
+		for _, m := range label.FindAllStringSubmatch(body, -1) {
+			if !strings.Contains(m[1], "(required)") {
+				continue
+			}
+			n++
+			wording = wording || strings.Contains(m[1], "Wording the experts read")
+			if strings.Count(m[1], "(required)") != 1 || !strings.Contains(m[1], mark) {
+				t.Errorf("%s: a required field's label does not mark it as the others do: %s", path, strings.Join(strings.Fields(m[1]), " "))
+			}
+		}
+		if n == 0 {
+			t.Errorf("%s: no field marked required; the check read nothing", path)
+		}
+		if form := strings.HasSuffix(path, "/new") || strings.HasSuffix(path, "/edit"); form && (!wording || strings.Contains(body, "Required. Ask about")) {
 			t.Errorf("%s: the wording is not marked required as the other fields are", path)
 		}
 	}

@@ -637,7 +637,7 @@ func correctSection(v panelView) templ.Component {
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = textArea(v.RetireForm, "retire_reason", "Reason for bringing it back (required)", "Experts will see it again.").Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = textArea(v.RetireForm, "retire_reason", "Reason for bringing it back", "Experts will see it again.", true).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
@@ -650,7 +650,7 @@ func correctSection(v panelView) templ.Component {
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = textArea(v.RetireForm, "retire_reason", "Reason for retiring it (required)", "Retiring hides the question from experts and leaves it out of the scores; its answers stay in the record.").Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = textArea(v.RetireForm, "retire_reason", "Reason for retiring it", "Retiring hides the question from experts and leaves it out of the scores; its answers stay in the record.", true).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
@@ -1832,7 +1832,7 @@ func poolSection(v panelView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.WeightsForm, "reason", "Reason for these weights (required)", "Recorded in the decision log. Weights apply to every question of the workshop.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.WeightsForm, "reason", "Reason for these weights", "Recorded in the decision log. Weights apply to every question of the workshop.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -2159,7 +2159,7 @@ func agreedSection(v panelView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale (required)", "Why the panel settled on this prior: the discussion, the disagreements, what was weighed.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale", "Why the panel settled on this prior: the discussion, the disagreements, what was weighed.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -118,7 +118,7 @@ func questionFormPage(v questionForm) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = textArea(v.Form, "wording", "Wording the experts read (required)", "Ask about one quantity, with its population and time frame.").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = textArea(v.Form, "wording", "Wording the experts read", "Ask about one quantity, with its population and time frame.", true).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -421,7 +421,7 @@ func questionFormPage(v questionForm) templ.Component {
 				return templ_7745c5c3_Err
 			}
 		} else {
-			templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason for the correction (required)", "Recorded in the decision log with the earlier text.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason for the correction", "Recorded in the decision log with the earlier text.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -206,7 +206,7 @@ func sheetPage(v sheetView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textAreaUpTo(v.Form, "sheet", "Or paste the sheet", "The same columns, as text, up to 1 MiB.", 0).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textAreaUpTo(v.Form, "sheet", "Or paste the sheet", "The same columns, as text, up to 1 MiB.", false, 0).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

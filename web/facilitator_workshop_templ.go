@@ -473,15 +473,15 @@ func workshopPage(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.EditForm, "purpose", "Purpose", "").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.EditForm, "purpose", "Purpose", "", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.EditForm, "decision", "Decision the prior feeds", "").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.EditForm, "decision", "Decision the prior feeds", "", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.EditForm, "notes", "Facilitator notes", "Experts never see these.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.EditForm, "notes", "Facilitator notes", "Experts never see these.", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -866,7 +866,7 @@ func finishSection(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.ArchiveForm, "archive_reason", "Reason for bringing it back (required)", "Recorded in the decision log.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.ArchiveForm, "archive_reason", "Reason for bringing it back", "Recorded in the decision log.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -879,7 +879,7 @@ func finishSection(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.ArchiveForm, "archive_reason", "Reason for archiving (required)", "Recorded in the decision log.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.ArchiveForm, "archive_reason", "Reason for archiving", "Recorded in the decision log.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1089,7 +1089,7 @@ func deletePage(v deleteView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason (required)", "For example: created twice by mistake.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason", "For example: created twice by mistake.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1242,7 +1242,7 @@ func revokePage(v revokeView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason (optional; recorded in the decision log)", "").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason (optional; recorded in the decision log)", "", false).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -1376,7 +1376,7 @@ func reissuePage(v revokeView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason (optional; recorded in the decision log)", "").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = textArea(v.Form, "reason", "Reason (optional; recorded in the decision log)", "", false).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -1538,7 +1538,7 @@ func roundControl(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.RoundForm, "reason", "Reason for closing (optional)", "").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.RoundForm, "reason", "Reason for closing (optional)", "", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1610,7 +1610,7 @@ func roundControl(v workshopView) templ.Component {
 					return templ_7745c5c3_Err
 				}
 			}
-			templ_7745c5c3_Err = textArea(v.RoundForm, "reason", "Reason for another round (required)", "For example: the panel discussed the spread of the medians and wants to revise.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.RoundForm, "reason", "Reason for another round", "For example: the panel discussed the spread of the medians and wants to revise.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1685,7 +1685,7 @@ func roundControl(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.RoundForm, "reopen_reason", "Reason for reopening (required)", "Reopening keeps the round's number: experts can save again, and their feedback stays the same.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.RoundForm, "reopen_reason", "Reason for reopening", "Reopening keeps the round's number: experts can save again, and their feedback stays the same.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1913,7 +1913,7 @@ func rosterSection(v workshopView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.ExpertForm, "expertise", "Expertise", "A line on what this person knows about the quantity.").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.ExpertForm, "expertise", "Expertise", "A line on what this person knows about the quantity.", false).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
