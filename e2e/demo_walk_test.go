@@ -174,6 +174,21 @@ func TestInlineFormButtonsSitLevelWithTheirField(t *testing.T) {
 			}
 		}
 	}
+	// The correction form's "Save the correction" and "Cancel" sit side
+	// by side, at the projector and on a phone: stacked, Cancel read as
+	// a second step of the form.
+	for _, w := range []int64{1366, 390} {
+		fac.viewport(w, 900, w < 500)
+		fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/edit")
+		gap := eval[float64](fac, "the correction form's buttons", `(() => {
+			const f = document.querySelector('form[action$="/edit"]');
+			const save = f.querySelector("button[type=submit]"), cancel = Array.from(f.querySelectorAll("a.button")).find(a => a.textContent.trim() === "Cancel");
+			return save && cancel ? Math.abs(save.getBoundingClientRect().top - cancel.getBoundingClientRect().top) : -1;
+		})()`)
+		if gap < 0 || gap > 2 {
+			t.Errorf("at %d px the correction form's Save and Cancel are not side by side (tops %.1f px apart)", w, gap)
+		}
+	}
 }
 
 // TestRoundsCardKeepsItsButtonApart: with round 1 of the invented demo
