@@ -8,6 +8,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // The entry page of an archived workshop invites the facilitator to
@@ -155,4 +157,55 @@ func TestEmptyHistorySaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
 		t.Fatal(err)
 	}
 	check("archived", none, open, final)
+}
+
+// The facilitator's page of one expert said "no answer yet" beside a
+// question whose true value was shown and in an archived workshop,
+// where no answer will come, and offered "Enter or revise" beside the
+// final question. It now says that no answer was saved, as the expert's
+// own page does, and offers nothing there; in an open round and a closed
+// one it still says "yet".
+func TestExpertsPageSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	priya := es[2] // the demo's Priya Raman has answered nothing
+	page := expertPagePath(ws.ID, priya.ID)
+	open, final := qs[0], qs[1] // qs[1] is a calibration question
+	cell := func(q workshop.Question) string {
+		t.Helper()
+		_, body := h.get(page)
+		_, rest, ok := strings.Cut(body, `<th scope="row">Q`+strconv.Itoa(q.Position)+" ")
+		if !ok {
+			t.Fatalf("%s: no row for Q%d", page, q.Position)
+		}
+		row, _, _ := strings.Cut(rest, "</tr>")
+		return row
+	}
+	const yet = "no answer yet"
+	if r := cell(open); !strings.Contains(r, yet) {
+		t.Fatalf("open round: the row says %q, want %q", r, yet)
+	}
+	if err := h.db.SetTrueValue(ctx, final.ID, *final.TrueValue, true, "Shown (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if r := cell(final); !strings.Contains(r, "no answer was saved before the true value was shown") || strings.Contains(r, "Enter or revise") {
+		t.Errorf("answers final: the row says %q, want that no answer was saved before the true value was shown, and no way to enter one", r)
+	}
+	if r := cell(open); !strings.Contains(r, yet) || !strings.Contains(r, "Enter or revise") {
+		t.Errorf("open round, another question: the row says %q, want %q and the way to enter it", r, yet)
+	}
+	if err := h.db.SetRound(ctx, ws.ID, ws.Round, false, "Break (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if r := cell(open); !strings.Contains(r, yet) {
+		t.Errorf("round closed: the row says %q, want %q", r, yet)
+	}
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []workshop.Question{open, final} {
+		if r := cell(q); !strings.Contains(r, "no answer was saved") || strings.Contains(r, yet) {
+			t.Errorf("archived, Q%d: the row says %q, want that no answer was saved", q.Position, r)
+		}
+	}
 }

@@ -311,6 +311,20 @@ type expertViewRow struct {
 	Enter    string
 }
 
+// noAnswer is what a row without an answer says: "yet" only where an
+// answer may still come, as the expert's own page says it. In an
+// archived workshop, and on a question whose true value was shown, no
+// answer will come.
+func (v expertView) noAnswer(q workshop.Question) string {
+	switch {
+	case v.Workshop.Archived:
+		return "no answer was saved"
+	case q.Frozen():
+		return "no answer was saved before the true value was shown"
+	}
+	return "no answer yet"
+}
+
 func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
