@@ -209,3 +209,60 @@ func TestExpertsPageSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
 		}
 	}
 }
+
+// The entry page of a revoked expert in an open round said "Round 1 is
+// open: judgements can be entered and revised." just below the banner
+// saying nothing can be entered for them, and asked how the judgement
+// reached the facilitator and for the expert's reasoning, which only a
+// save keeps. It now says the round is open for the other experts and
+// asks for neither, here and in an archived workshop; the values and
+// Show the fit stay. An expert with access is asked as before.
+func TestRevokedEntryPageOffersOnlyWhatCanBeUsed(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	q := qs[0]
+	priya, tomas := es[2], es[1]
+	const enterable = "judgements can be entered and revised"
+	saveParts := []string{`id="f-channel"`, "How it reached you", `id="f-reason"`, "The expert's reasoning"}
+	read := func(path string) string {
+		t.Helper()
+		_, page := h.get(path)
+		return html.UnescapeString(page)
+	}
+	page := read(entryPath(ws.ID, q.ID, priya.ID))
+	for _, want := range append([]string{enterable, "Show the fit", `name="values[0]"`}, saveParts...) {
+		if !strings.Contains(page, want) {
+			t.Fatalf("open round, access: the entry page lacks %q", want)
+		}
+	}
+	if err := h.db.RevokeExpert(ctx, priya.ID, "Left the panel (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	page = read(entryPath(ws.ID, q.ID, priya.ID))
+	if strings.Contains(page, enterable) || !strings.Contains(page, "Round 1 is open for the other experts.") {
+		t.Error("open round, access revoked: the round's line does not say the round is open for the other experts alone")
+	}
+	for _, part := range saveParts {
+		if strings.Contains(page, part) {
+			t.Errorf("open round, access revoked: the entry page still offers %q, which only a save uses", part)
+		}
+	}
+	if !strings.Contains(page, "Show the fit") || !strings.Contains(page, `name="values[0]"`) {
+		t.Error("open round, access revoked: the values and Show the fit are gone")
+	}
+	if err := h.db.SetRound(ctx, ws.ID, ws.Round, false, "Break (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if page = read(entryPath(ws.ID, q.ID, priya.ID)); strings.Contains(page, "until the next round opens") || !strings.Contains(page, "Round 1 is closed.") {
+		t.Error("closed round, access revoked: the round's line says something can be entered when the next round opens")
+	}
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	page = read(entryPath(ws.ID, q.ID, tomas.ID))
+	for _, part := range saveParts {
+		if strings.Contains(page, part) {
+			t.Errorf("archived: the entry page still offers %q, which only a save uses", part)
+		}
+	}
+}

@@ -385,6 +385,19 @@ func (v expertQuestionView) saving() saving {
 	return savingClosed
 }
 
+// asksForSave says whether the form shows the parts only a save uses:
+// on the facilitator's entry page, how the judgement reached them and
+// the expert's reasoning. For a revoked expert and in an archived
+// workshop nothing can be entered, so the page asks for neither; the
+// values and Show the fit stay, as the preview saves nothing.
+func (v expertQuestionView) asksForSave() bool {
+	if v.OnBehalf == nil {
+		return true
+	}
+	s := v.saving()
+	return s != savingRevoked && s != savingFinished
+}
+
 // onBehalfOf is the expert's name on the facilitator's entry page, ""
 // on the expert's own.
 func (v expertQuestionView) onBehalfOf() string {

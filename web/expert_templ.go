@@ -967,7 +967,7 @@ func expertAnswerForm(v expertQuestionView) templ.Component {
 				return templ_7745c5c3_Err
 			}
 		} else {
-			if v.OnBehalf != nil {
+			if v.OnBehalf != nil && v.asksForSave() {
 				{
 					templ_7745c5c3_ElementWriter := templ_7745c5c3_Buffer
 					templ_7745c5c3_Buffer := templ.GetBuffer()
@@ -1495,7 +1495,7 @@ func expertAnswerForm(v expertQuestionView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if !v.Frozen {
+		if !v.Frozen && v.asksForSave() {
 			{
 				templ_7745c5c3_ElementWriter := templ_7745c5c3_Buffer
 				templ_7745c5c3_Buffer := templ.GetBuffer()
