@@ -46,6 +46,9 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 			fits(t, fac, page, width)
 			oneLineTerm(t, fac, page, width, "SHA-256")
 			logReadsWhole(t, fac, page, width)
+			if page == "/report" {
+				historyReadsWhole(t, fac, page, width)
+			}
 			shots.take(fac, "sheet-import"+strings.ReplaceAll(page, "/", "-")+"-"+strconv.FormatInt(width, 10))
 		}
 		// The question's history names the sheet and row beside the entry.
@@ -139,28 +142,50 @@ func oneLineTerm(t *testing.T, p *person, where string, width int64, term string
 // detail squeezed until "judgement" read "judge" over "ment".
 func logReadsWhole(t *testing.T, p *person, where string, width int64) {
 	t.Helper()
-	const log = `(() => {
+	tablesReadWhole(t, p, where, width, "log", `(() => {
 		const h = Array.from(document.querySelectorAll("h1, h2")).find(h => h.textContent.trim() === "Decision log");
-		return (h.closest("section") || document).querySelector("table");
-	})()`
+		return [(h.closest("section") || document).querySelector("table")];
+	})()`)
+}
+
+// historyReadsWhole checks the report's revision history as logReadsWhole
+// checks the log: on a phone its six columns lay the stated values, the
+// fitted Beta and the reason past the screen's edge, to be scrolled to
+// one question's table at a time.
+func historyReadsWhole(t *testing.T, p *person, where string, width int64) {
+	t.Helper()
+	if n := eval[int](p, "the revision history's tables", `document.querySelectorAll(".table-history").length`); n == 0 {
+		t.Fatalf("%s: no revision history", where)
+	}
+	tablesReadWhole(t, p, where, width, "revision history", `Array.from(document.querySelectorAll(".table-history"))`)
+}
+
+// tablesReadWhole checks the tables the script expression lists (an
+// array): on a phone each row is a block of lines, its cells one above
+// the other, and at every width no word breaks over lines.
+func tablesReadWhole(t *testing.T, p *person, where string, width int64, what, tables string) {
+	t.Helper()
 	if width < 600 {
-		if side := eval[int](p, "the log's rows", `Array.from(`+log+`.tBodies[0].rows).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
-			t.Errorf("%s at %d px: %d of the log's decisions lay their cells side by side", where, width, side)
+		if side := eval[int](p, "the "+what+"'s rows", tables+`.flatMap(t => Array.from(t.tBodies[0].rows)).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+			t.Errorf("%s at %d px: %d of the %s's rows lay their cells side by side", where, width, side, what)
 		}
 	}
-	broken := eval[[]string](p, "the log's words", `(() => {
-		const out = [], w = document.createTreeWalker(`+log+`, NodeFilter.SHOW_TEXT);
-		for (let n; (n = w.nextNode()); ) {
-			for (const m of n.data.matchAll(/[^\s\-\u2010-\u2014]+/g)) {
-				if (m[0].length > 40) continue;
-				const r = document.createRange(); r.setStart(n, m.index); r.setEnd(n, m.index + m[0].length);
-				const lines = Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top));
-				if (new Set(lines).size > 1) out.push(m[0]);
+	broken := eval[[]string](p, "the "+what+"'s words", `(() => {
+		const out = [];
+		for (const table of `+tables+`) {
+			const w = document.createTreeWalker(table, NodeFilter.SHOW_TEXT);
+			for (let n; (n = w.nextNode()); ) {
+				for (const m of n.data.matchAll(/[^\s\-\u2010-\u2014]+/g)) {
+					if (m[0].length > 40) continue;
+					const r = document.createRange(); r.setStart(n, m.index); r.setEnd(n, m.index + m[0].length);
+					const lines = Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top));
+					if (new Set(lines).size > 1) out.push(m[0]);
+				}
 			}
 		}
 		return out.slice(0, 6);
 	})()`)
 	if len(broken) > 0 {
-		t.Errorf("%s at %d px: the log breaks words over lines: %q", where, width, broken)
+		t.Errorf("%s at %d px: the %s breaks words over lines: %q", where, width, what, broken)
 	}
 }
