@@ -104,6 +104,15 @@ func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
+	if ws.Archived {
+		// Nothing links here once a workshop is archived (the overview's
+		// link shows while a round is open), but a bookmark or a tab left
+		// open still does: the form's check would be refused by the
+		// archive's guard, so the page offers no form.
+		s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, "Import judgements", "overview"),
+			messagePage("Import judgements from a spreadsheet", "This workshop is archived, so no judgements can be imported into it. To import some, bring it back from its overview page first; that is recorded in the decision log."))
+		return
+	}
 	f := newForm(nil)
 	f.Values.Set("channel", string(workshop.ChannelFile))
 	s.renderSheet(w, r, http.StatusOK, sheetView{Workshop: ws, Form: f})
