@@ -266,3 +266,63 @@ func TestRevokedEntryPageOffersOnlyWhatCanBeUsed(t *testing.T) {
 		}
 	}
 }
+
+// The overview's table of who has answered what said "no answer yet"
+// beside a question whose true value was shown and in an archived
+// workshop, where no answer will come. Its cells now say that no answer
+// was saved, as the facilitator's page of one expert does; in an open
+// round and a closed one they still say "yet".
+func TestOverviewSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	wp := workshopPath(ws.ID)
+	open, final := qs[0], qs[1] // qs[1] is a calibration question
+	// cell is Priya Raman's cell for q: the demo's Priya has answered
+	// neither question.
+	cell := func(q workshop.Question) string {
+		t.Helper()
+		_, body := h.get(wp)
+		_, table, ok := strings.Cut(body, `<section id="answered"`)
+		if !ok {
+			t.Fatalf("%s: no table of who has answered what", wp)
+		}
+		_, row, ok := strings.Cut(table, `<th scope="row">Priya Raman`)
+		if !ok {
+			t.Fatalf("%s: no row for Priya Raman", wp)
+		}
+		row, _, _ = strings.Cut(row, "</tr>")
+		row = strings.NewReplacer(`<span class="nowrap">`, "", "</span>", "").Replace(row)
+		cells := strings.Split(row, "<td")[1:]
+		if len(cells) < q.Position {
+			t.Fatalf("%s: Priya's row has %d cells, want Q%d's", wp, len(cells), q.Position)
+		}
+		return cells[q.Position-1]
+	}
+	const yet = "no answer yet"
+	if c := cell(final); !strings.Contains(c, yet) {
+		t.Fatalf("open round, calibration question not yet shown: the cell says %q, want %q", c, yet)
+	}
+	if err := h.db.SetTrueValue(ctx, final.ID, *final.TrueValue, true, "Shown (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if c := cell(final); !strings.Contains(c, "no answer was saved (true value shown)") || strings.Contains(c, yet) {
+		t.Errorf("answers final: the cell says %q, want that no answer was saved, the true value shown", c)
+	}
+	if c := cell(open); !strings.Contains(c, yet) {
+		t.Errorf("open round, another question: the cell says %q, want %q", c, yet)
+	}
+	if err := h.db.SetRound(ctx, ws.ID, ws.Round, false, "Break (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if c := cell(open); !strings.Contains(c, yet) {
+		t.Errorf("round closed: the cell says %q, want %q", c, yet)
+	}
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []workshop.Question{open, final} {
+		if c := cell(q); !strings.Contains(c, ">no answer was saved<") {
+			t.Errorf("archived, Q%d: the cell says %q, want that no answer was saved", q.Position, c)
+		}
+	}
+}
