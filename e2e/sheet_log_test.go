@@ -103,6 +103,11 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 				oneLineTerm(t, fac, "sheet saved", w, "SHA-256")
 				shots.take(fac, "sheet-saved-"+strconv.FormatInt(w, 10))
 			}
+			// Said once: the overview reloaded says nothing of the sheet.
+			fac.load("reload the overview", chromedp.Reload())
+			if strings.Contains(fac.text(), "Answer sheet saved.") {
+				t.Error("the overview reloaded says again that the sheet was saved")
+			}
 		}
 	}
 }

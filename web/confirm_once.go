@@ -20,6 +20,10 @@ const doneCookie = "parley_done"
 // expert's own, or the facilitator's entry page for the expert.
 const doneSaved = "saved"
 
+// doneSheetSaved confirms an answer sheet saved, on the workshop's
+// overview, which names what the last sheet saved.
+const doneSheetSaved = "sheet"
+
 // doneLife bounds how long a confirmation waits for its page: the
 // redirect is followed at once.
 const doneLife = 60 // seconds

@@ -95,9 +95,11 @@ func sheetHeaderHTML(qs []workshop.Question) string {
 
 func sheetPath(ws int64) string { return workshopPath(ws) + "/answers/import" }
 
-// sheetSavedPath is the overview saying what the last sheet saved: the
-// confirmation used to land on the overview without a word of it.
-func sheetSavedPath(ws int64) string { return workshopPath(ws) + "?imported=1#sheet-saved" }
+// sheetSavedPath is the overview at the words of what the last sheet
+// saved, which it says once (doneSheetSaved): the confirmation used to
+// land on the overview without a word of it, and then said it in the
+// address (?imported=1), again at every reload.
+func sheetSavedPath(ws int64) string { return workshopPath(ws) + "#sheet-saved" }
 
 func (s *Server) sheetForm(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
@@ -270,6 +272,7 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	sh, found, taken := s.sheets.take(key, s.now())
 	if taken {
 		// Sent twice: the first is saving it, or has; nothing more is.
+		s.confirmOnce(w, r, workshopPath(ws.ID), doneSheetSaved)
 		http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 		return
 	}
@@ -299,6 +302,7 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
 		return
 	}
+	s.confirmOnce(w, r, workshopPath(ws.ID), doneSheetSaved)
 	http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 }
 

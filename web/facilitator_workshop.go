@@ -77,7 +77,7 @@ func (s *Server) workshopOverview(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := workshopView{}
-	if r.URL.Query().Get("imported") == "1" {
+	if s.takeConfirmation(w, r, workshopPath(ws.ID), doneSheetSaved) == doneSheetSaved {
 		evs, err := s.store.Events(r.Context(), ws.ID)
 		if err != nil {
 			s.fail(w, r, err)

@@ -24,6 +24,18 @@ import (
 // uploadSheet uploads a sheet under a file name and confirms it.
 func (g *sheetRig) uploadSheet(t *testing.T, name, text, channel string) {
 	t.Helper()
+	key := g.previewSheet(t, name, text, channel)
+	r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key}})
+	if r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm %s: %d", name, r.StatusCode)
+	}
+	g.savedAt = r.Header.Get("Location")
+}
+
+// previewSheet uploads a sheet under a file name and returns the key
+// its confirmation sends.
+func (g *sheetRig) previewSheet(t *testing.T, name, text, channel string) string {
+	t.Helper()
 	var buf bytes.Buffer
 	mw := multipart.NewWriter(&buf)
 	fw, _ := mw.CreateFormFile("file", name)
@@ -38,11 +50,7 @@ func (g *sheetRig) uploadSheet(t *testing.T, name, text, channel string) {
 	if key == nil {
 		t.Fatalf("no preview of %s: %s", name, body)
 	}
-	r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}})
-	if r.StatusCode != http.StatusSeeOther {
-		t.Fatalf("confirm %s: %d", name, r.StatusCode)
-	}
-	g.savedAt = r.Header.Get("Location")
+	return key[1]
 }
 
 // A judgement read from an answer sheet says which file and which row of
@@ -264,22 +272,56 @@ func TestSheetPreviewSaysWhatARowFollows(t *testing.T) {
 
 // Once a sheet is saved, the overview says what was saved: the
 // confirmation landed on the overview without a word, so the facilitator
-// could not tell it had worked but by reading the table of answers.
+// could not tell it had worked but by reading the table of answers. It
+// says so once: the confirmation rode in the address (?imported=1), and
+// a reload said again that a sheet was saved. A confirmation sent twice
+// (a double click, a browser's retry) saves the sheet once and still says
+// so once.
 func TestSheetSavedIsSaid(t *testing.T) {
 	g := newSheetRig(t)
+	overview := workshopPath(g.ws.ID)
+	const saved = "Answer sheet saved."
+	// The overview as the browser is sent to it, and as a reload asks for
+	// it again.
+	at := overview
+	shows := func(when string) string {
+		t.Helper()
+		r, body := g.h.get(at)
+		if r.StatusCode != http.StatusOK {
+			t.Fatalf("overview, %s: %d", when, r.StatusCode)
+		}
+		return html.UnescapeString(body)
+	}
 	g.uploadSheet(t, "monday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.04,0.1\n", "paper_form")
-	if g.savedAt != sheetSavedPath(g.ws.ID) {
-		t.Fatalf("the confirmation goes to %q", g.savedAt)
+	at, _, _ = strings.Cut(g.savedAt, "#")
+	if g.savedAt != sheetSavedPath(g.ws.ID) || at != overview {
+		t.Errorf("the confirmation goes to %q, want the overview at the words of the sheet saved", g.savedAt)
 	}
-	r, body := g.h.get(strings.TrimSuffix(g.savedAt, "#sheet-saved"))
-	if r.StatusCode != http.StatusOK {
-		t.Fatalf("overview: %d", r.StatusCode)
-	}
-	if text := html.UnescapeString(body); !strings.Contains(text, "Answer sheet saved.</strong> 2 judgements, rows 2–3 of monday.csv") || !strings.Contains(text, `id="sheet-saved"`) {
+	if text := shows("after the sheet"); !strings.Contains(text, saved+"</strong> 2 judgements, rows 2–3 of monday.csv") || !strings.Contains(text, `id="sheet-saved"`) {
 		t.Error("the overview does not say what the sheet saved")
 	}
-	if _, body := g.h.get(workshopPath(g.ws.ID)); strings.Contains(body, "Answer sheet saved.") {
-		t.Error("the plain overview speaks of a sheet saved")
+	if strings.Contains(shows("reloaded"), saved) {
+		t.Error("the overview reloaded says again that the sheet was saved")
+	}
+	if _, body := g.h.get(overview + "?imported=1"); strings.Contains(body, saved) {
+		t.Error("the overview's former address still says a sheet was saved")
+	}
+
+	// The same confirmation sent twice: the first copy's answer never
+	// reaches the browser, which follows the second's.
+	confirm := url.Values{"key": {g.previewSheet(t, "tuesday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.03,0.07,0.16\n", "message")}}
+	if r := postLost(t, g.h, sheetPath(g.ws.ID)+"/confirm", confirm); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("the first copy: %d", r.StatusCode)
+	}
+	r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", confirm)
+	if at, _, _ = strings.Cut(r.Header.Get("Location"), "#"); r.StatusCode != http.StatusSeeOther || !strings.HasPrefix(at, overview) {
+		t.Fatalf("the second copy: %d to %q, want 303 to the overview", r.StatusCode, r.Header.Get("Location"))
+	}
+	if text := shows("after the sheet sent twice"); !strings.Contains(text, saved+"</strong> 1 judgement, row 2 of tuesday.csv") {
+		t.Error("the overview after a sheet sent twice does not say what it saved")
+	}
+	if strings.Contains(shows("reloaded"), saved) {
+		t.Error("the overview reloaded after a sheet sent twice says again that it was saved")
 	}
 }
 
