@@ -3,6 +3,8 @@ package web
 import (
 	"net/http"
 	"slices"
+	"strconv"
+	"strings"
 )
 
 // A form that saved says so on the page it sends the browser to, once.
@@ -24,6 +26,11 @@ const doneSaved = "saved"
 // overview, which names what the last sheet saved.
 const doneSheetSaved = "sheet"
 
+// doneDeleted confirms a workshop deleted, on the workshop list. Its
+// cookie names the workshop: doneDeleted and the workshop's id
+// (deletedConfirmation), which takeDeleted reads back.
+const doneDeleted = "deleted-"
+
 // doneLife bounds how long a confirmation waits for its page: the
 // redirect is followed at once.
 const doneLife = 60 // seconds
@@ -41,6 +48,37 @@ func (s *Server) confirmOnce(w http.ResponseWriter, r *http.Request, path, what 
 // if it is one of known, and clears it so that it is shown once; "" when
 // there is none.
 func (s *Server) takeConfirmation(w http.ResponseWriter, r *http.Request, path string, known ...string) string {
+	return s.takeConfirmationIf(w, r, path, func(v string) bool { return slices.Contains(known, v) })
+}
+
+// deletedConfirmation is the confirmation of the workshop id deleted.
+func deletedConfirmation(id int64) string { return doneDeleted + strconv.FormatInt(id, 10) }
+
+// takeDeleted returns the id of the workshop whose deletion the workshop
+// list is to confirm, 0 when there is none. A value of any other shape
+// than doneDeleted and a positive id in digits is read as none; the list
+// names the workshop from its own record of deletions, so a cookie a
+// client forged can at most name a workshop that was deleted.
+func (s *Server) takeDeleted(w http.ResponseWriter, r *http.Request) int64 {
+	var id int64
+	s.takeConfirmationIf(w, r, "/", func(v string) bool {
+		digits, ok := strings.CutPrefix(v, doneDeleted)
+		if !ok || digits == "" || strings.Trim(digits, "0123456789") != "" {
+			return false
+		}
+		n, err := strconv.ParseInt(digits, 10, 64)
+		if err != nil || n <= 0 {
+			return false
+		}
+		id = n
+		return true
+	})
+	return id
+}
+
+// takeConfirmationIf returns the confirmation left for the page at path
+// if ok accepts it, and clears it; "" when there is none.
+func (s *Server) takeConfirmationIf(w http.ResponseWriter, r *http.Request, path string, ok func(string) bool) string {
 	c, err := r.Cookie(doneCookie)
 	if err != nil {
 		return ""
@@ -49,7 +87,7 @@ func (s *Server) takeConfirmation(w http.ResponseWriter, r *http.Request, path s
 		Name: doneCookie, Value: "", Path: path, MaxAge: -1,
 		HttpOnly: true, Secure: s.opt.SecureCookies || r.TLS != nil, SameSite: http.SameSiteStrictMode,
 	})
-	if !slices.Contains(known, c.Value) {
+	if !ok(c.Value) {
 		return ""
 	}
 	return c.Value

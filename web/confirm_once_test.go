@@ -1,6 +1,7 @@
 package web
 
 import (
+	"html"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -151,4 +152,72 @@ func postLost(t *testing.T, b *harness, path string, v url.Values) *http.Respons
 	}
 	res.Body.Close()
 	return res
+}
+
+// The workshop list says which workshop was just deleted, once. The
+// deletion led to /?deleted=N, which the list never read: it said
+// nothing of it, and an address that named the deletion would have said
+// it again at every reload. The confirmation rides in a cookie whose
+// value names the workshop by its id, read back only in that shape; the
+// list takes the title from its own record of deletions, so a forged
+// cookie shows nothing that was not deleted. The form sent twice still
+// says it once.
+func TestDeletionIsSaidOnce(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	at := "/" // the list as the browser is sent to it, and reloads it
+	list := func(when string) string {
+		t.Helper()
+		r, body := h.get(at)
+		if r.StatusCode != http.StatusOK {
+			t.Fatalf("the list, %s: %d", when, r.StatusCode)
+		}
+		return html.UnescapeString(body)
+	}
+	said := func(title string) string { return "“" + title + "” was deleted." }
+	var gone int64
+	for _, twice := range []bool{false, true} {
+		title := "Made by mistake (invented, sent twice: " + strconv.FormatBool(twice) + ")"
+		ws := h.newWorkshop(title)
+		gone = ws.ID
+		del := workshopPath(ws.ID) + "/delete"
+		_, page := h.get(del)
+		form := url.Values{"reason": {"Created twice (invented)."}, "confirm": {"on"}, onceName: {keyOf(t, page, del)}}
+		if twice {
+			if r := postLost(t, h, del, form); r.StatusCode != http.StatusSeeOther {
+				t.Fatalf("the first copy: %d", r.StatusCode)
+			}
+		}
+		r, _ := h.post(del, form)
+		if at = r.Header.Get("Location"); r.StatusCode != http.StatusSeeOther || !strings.HasPrefix(at, "/") || strings.HasPrefix(at, "/w/") {
+			t.Fatalf("delete (sent twice: %v): %d to %q, want 303 to the list", twice, r.StatusCode, at)
+		}
+		if !strings.Contains(list("after the deletion"), said(title)) {
+			t.Errorf("the list after the deletion (sent twice: %v) does not say %q", twice, said(title))
+		}
+		if strings.Contains(list("reloaded"), "was deleted.") {
+			t.Errorf("the list reloaded (sent twice: %v) says again that a workshop was deleted", twice)
+		}
+	}
+
+	// A cookie of another shape, or naming a workshop that was not
+	// deleted, says nothing.
+	at = "/"
+	alive := h.newWorkshop("Still running (invented)")
+	base, err := url.Parse(h.ts.URL + "/")
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, forged := range []string{
+		deletedConfirmation(alive.ID), deletedConfirmation(alive.ID + 1000),
+		"deleted-0", "deleted--1", "deleted-+1", "deleted-", "deleted-1x", "deleted-99999999999999999999", doneSaved,
+	} {
+		h.client.Jar.SetCookies(base, []*http.Cookie{{Name: doneCookie, Value: forged, Path: "/"}})
+		if text := list("with " + forged); strings.Contains(text, "was deleted.") {
+			t.Errorf("a cookie %q makes the list say a workshop was deleted", forged)
+		}
+	}
+	if _, body := h.get("/?deleted=" + strconv.FormatInt(gone, 10)); strings.Contains(body, "was deleted.") {
+		t.Error("the list's old address says again that a workshop was deleted")
+	}
 }

@@ -103,7 +103,23 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 type workshopListView struct {
 	Workshops []workshop.Workshop
 	Deleted   []workshop.DeletedWorkshop
-	Form      *Form
+	// JustDeleted is the id of the workshop deleted by the form that led
+	// here, said once (takeDeleted); 0 otherwise.
+	JustDeleted int64
+	Form        *Form
+}
+
+// justDeleted is the record of the workshop the list confirms deleted.
+func (v workshopListView) justDeleted() (workshop.DeletedWorkshop, bool) {
+	if v.JustDeleted <= 0 {
+		return workshop.DeletedWorkshop{}, false
+	}
+	for _, d := range v.Deleted {
+		if d.WorkshopID == v.JustDeleted {
+			return d, true
+		}
+	}
+	return workshop.DeletedWorkshop{}, false
 }
 
 func (v workshopListView) active() []workshop.Workshop   { return v.filter(false) }
@@ -120,10 +136,12 @@ func (v workshopListView) filter(archived bool) []workshop.Workshop {
 }
 
 func (s *Server) workshopList(w http.ResponseWriter, r *http.Request) {
-	s.showWorkshopList(w, r, http.StatusOK, newForm(nil))
+	s.showWorkshopList(w, r, http.StatusOK, newForm(nil), s.takeDeleted(w, r))
 }
 
-func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status int, f *Form) {
+// showWorkshopList renders the list; justDeleted is the workshop whose
+// deletion it confirms, 0 for none.
+func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status int, f *Form, justDeleted int64) {
 	ws, err := s.store.Workshops(r.Context())
 	if err != nil {
 		s.fail(w, r, err)
@@ -135,7 +153,7 @@ func (s *Server) showWorkshopList(w http.ResponseWriter, r *http.Request, status
 		return
 	}
 	s.renderPage(w, r, status, pageMeta{Title: "Workshops", Facilitator: true, Section: "workshops"},
-		workshopListPage(workshopListView{Workshops: ws, Deleted: deleted, Form: f}))
+		workshopListPage(workshopListView{Workshops: ws, Deleted: deleted, JustDeleted: justDeleted, Form: f}))
 }
 
 // createWorkshop validates the new workshop's fields and saves it; bad
@@ -152,12 +170,12 @@ func (s *Server) createWorkshop(w http.ResponseWriter, r *http.Request) {
 		Notes:    f.Text("notes", input.MaxLongText, false),
 	}
 	if !f.OK() {
-		s.showWorkshopList(w, r, http.StatusUnprocessableEntity, f)
+		s.showWorkshopList(w, r, http.StatusUnprocessableEntity, f, 0)
 		return
 	}
 	if err := s.store.CreateWorkshop(r.Context(), &ws); err != nil {
 		if s.notSaved(r, f, err) {
-			s.showWorkshopList(w, r, f.refusedStatus(), f)
+			s.showWorkshopList(w, r, f.refusedStatus(), f, 0)
 			return
 		}
 		s.fail(w, r, err)

@@ -98,7 +98,8 @@ func (s *Server) deleteWorkshop(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	s.live.publish(ws.ID, "deleted")
-	http.Redirect(w, r, "/?deleted="+strconv.FormatInt(ws.ID, 10), http.StatusSeeOther)
+	s.confirmOnce(w, r, "/", deletedConfirmation(ws.ID))
+	http.Redirect(w, r, "/", http.StatusSeeOther)
 }
 
 // archivedGuard refuses every change to an archived workshop except
