@@ -326,3 +326,52 @@ func TestOverviewSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
 		}
 	}
 }
+
+// The question's panel said "no answer yet" in its table of judgements
+// beside an expert who never answered a question whose true value was
+// shown, or any question of an archived workshop, where no answer will
+// come. It says what the facilitator's other pages say.
+func TestPanelSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	open, final := qs[0], qs[1] // qs[1] is a calibration question
+	// row is Priya Raman's row of q's judgements table: the demo's
+	// Priya has answered neither question.
+	row := func(q workshop.Question) string {
+		t.Helper()
+		_, body := h.get(questionPath(ws.ID, q.ID))
+		_, table, ok := strings.Cut(body, `<section id="judgements">`)
+		if !ok {
+			t.Fatalf("Q%d's panel has no table of judgements", q.Position)
+		}
+		_, r, ok := strings.Cut(table, "Priya Raman")
+		if !ok {
+			t.Fatalf("Q%d's table of judgements has no row for Priya Raman", q.Position)
+		}
+		r, _, _ = strings.Cut(r, "</tr>")
+		return r
+	}
+	const yet = "no answer yet"
+	for _, q := range []workshop.Question{open, final} {
+		if r := row(q); !strings.Contains(r, yet) {
+			t.Fatalf("open round, Q%d: the row says %q, want %q", q.Position, r, yet)
+		}
+	}
+	if err := h.db.SetTrueValue(ctx, final.ID, *final.TrueValue, true, "Shown (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if r := row(final); !strings.Contains(r, "no answer was saved before the true value was shown") || strings.Contains(r, yet) {
+		t.Errorf("answers final: the row says %q, want that no answer was saved before the true value was shown", r)
+	}
+	if r := row(open); !strings.Contains(r, yet) {
+		t.Errorf("open round, a question still open: the row says %q, want %q", r, yet)
+	}
+	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []workshop.Question{open, final} {
+		if r := row(q); !strings.Contains(r, "no answer was saved") || strings.Contains(r, yet) {
+			t.Errorf("archived, Q%d: the row says %q, want that no answer was saved", q.Position, r)
+		}
+	}
+}

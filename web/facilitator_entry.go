@@ -311,13 +311,16 @@ type expertViewRow struct {
 	Enter    string
 }
 
-// noAnswer is what a row without an answer says: "yet" only where an
-// answer may still come, as the expert's own page says it. In an
-// archived workshop, and on a question whose true value was shown, no
-// answer will come.
-func (v expertView) noAnswer(q workshop.Question) string {
+// noAnswer is what a row without an answer says (noAnswerIn).
+func (v expertView) noAnswer(q workshop.Question) string { return noAnswerIn(v.Workshop, q) }
+
+// noAnswerIn is what a facilitator's row without an answer to q says:
+// "yet" only where an answer may still come, as the expert's own page
+// says it. In an archived workshop, and on a question whose true value
+// was shown, no answer will come.
+func noAnswerIn(ws workshop.Workshop, q workshop.Question) string {
 	switch {
-	case v.Workshop.Archived:
+	case ws.Archived:
 		return "no answer was saved"
 	case q.Frozen():
 		return "no answer was saved before the true value was shown"
