@@ -5,6 +5,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // TestOverviewCellsKeepTheirCountWhole: on the projector (1366 px) the
@@ -212,6 +214,55 @@ func TestRoundsCardKeepsItsButtonApart(t *testing.T) {
 		})()`)
 		if gap < 12 {
 			t.Errorf("at %d px the rounds card's button ends %.1f px above the line under it; want 12 px or more", w, gap)
+		}
+	}
+}
+
+// TestWorkshopListKeepsEachDateWhole: on a phone the workshop list broke
+// its Created column inside the date, "2026-12-" over "03 15:31 UTC". A
+// date and time is read as one thing: it stays on one line and on the
+// screen at every width. On a phone each workshop is a block of lines,
+// its title, its round and when it was created, as the wider tables are.
+func TestWorkshopListKeepsEachDateWhole(t *testing.T) {
+	site, _ := startDemo(t)
+	ctx := context.Background()
+	w := workshop.Workshop{Title: "Leak rate after the 2026 relining of the northern trunk main (invented)"}
+	if err := site.DB.CreateWorkshop(ctx, &w); err != nil {
+		t.Fatal(err)
+	}
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	shots := newScreenshots(t)
+	for _, width := range append(append([]int64{}, phoneWidths...), 1366) {
+		fac.viewport(width, 900, width < 600)
+		fac.open(site.URL + "/")
+		broken := eval[[]string](fac, "the list's dates", `(() => {
+			const out = [];
+			for (const td of document.querySelectorAll("main table td")) {
+				const w = document.createTreeWalker(td, NodeFilter.SHOW_TEXT);
+				for (let n = w.nextNode(); n; n = w.nextNode()) {
+					const re = /\d{4}-\d\d-\d\d \d\d:\d\d UTC/g;
+					for (let m; (m = re.exec(n.textContent)); ) {
+						const r = document.createRange();
+						r.setStart(n, m.index); r.setEnd(n, m.index + m[0].length);
+						if (new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size > 1) out.push(m[0] + " over two lines");
+						const main = td.closest("main"), edge = main.getBoundingClientRect().right - parseFloat(getComputedStyle(main).paddingRight);
+						if (r.getBoundingClientRect().right > Math.min(edge, document.documentElement.clientWidth) + 0.5) out.push(m[0] + " past the edge, at " + Math.round(r.getBoundingClientRect().right) + " px");
+					}
+				}
+			}
+			return out;
+		})()`)
+		if n := fac.count("main table tbody tr"); n != 2 {
+			t.Fatalf("at %d px the list shows %d workshops, want 2", width, n)
+		}
+		if len(broken) > 0 {
+			t.Errorf("at %d px the workshop list breaks or cuts a date: %q", width, broken)
+		}
+		fits(t, fac, "the workshop list", width)
+		if width == 390 || width == 1366 {
+			shots.take(fac, "workshop-list-"+strconv.FormatInt(width, 10))
 		}
 	}
 }
