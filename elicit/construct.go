@@ -199,8 +199,29 @@ func checkScaledInterval(in ConstructionInput) error {
 	return checkCentral("coverage", in.Coverage)
 }
 
-// Describe says in one line how the prior was made, for a record.
+// Describe says in one line how the prior was made, for a record and
+// the command line: the Beta's α and β as %g writes them, to the last
+// figure a float64 needs, and the coverage it holds to four figures.
 func (c Construction) Describe() string {
+	return c.DescribeIn(Figures{
+		Shape:   func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) },
+		Percent: func(p float64) string { return PercentText(p, 4) + "%" },
+	})
+}
+
+// Figures says how a description writes its numbers, so that a page
+// writes the description's Beta and coverage as it writes them elsewhere
+// on the same page: Shape writes a Beta's α or β, Percent a probability
+// as a percentage, its sign included.
+type Figures struct {
+	Shape   func(float64) string
+	Percent func(float64) string
+}
+
+// DescribeIn says in one line how the prior was made, as Describe does,
+// with the Beta and the coverage it holds written by f; the person's own
+// inputs are written as typed (%g).
+func (c Construction) DescribeIn(f Figures) string {
 	in := c.Input
 	scale := ""
 	if in.Lower != 0 || in.Upper != 1 {
@@ -210,13 +231,13 @@ func (c Construction) Describe() string {
 	case MethodUniform:
 		return "uniform" + scale + ", Beta(1, 1): every value equally likely"
 	case MethodEquivalentSample:
-		return fmt.Sprintf("equivalent prior sample: %g successes in %g imagined trials, Beta(s, n − s) = Beta(%g, %g)", in.Successes, in.Trials, c.Dist.Alpha, c.Dist.Beta.Beta)
+		return fmt.Sprintf("equivalent prior sample: %g successes in %g imagined trials, Beta(s, n − s) = Beta(%s, %s)", in.Successes, in.Trials, f.Shape(c.Dist.Alpha), f.Shape(c.Dist.Beta.Beta))
 	case MethodMeanSD:
 		return fmt.Sprintf("mean %g and standard deviation %g%s by the method of moments", in.Mean, in.SD, scale)
 	case MethodIntervalMoments:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %s%%", percentOf(in.Coverage), in.Low, in.High, scale, PercentText(c.CoverageAchieved, 4))
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %s", percentOf(in.Coverage), in.Low, in.High, scale, f.Percent(c.CoverageAchieved))
 	case MethodIntervalQuantiles:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %s%%", percentOf(in.Coverage), in.Low, in.High, scale, PercentText(c.CoverageAchieved, 4))
+		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %s", percentOf(in.Coverage), in.Low, in.High, scale, f.Percent(c.CoverageAchieved))
 	}
 	return string(in.Method)
 }

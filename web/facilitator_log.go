@@ -347,7 +347,7 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			}
 			if d.Construction != nil {
 				if c, err := elicit.Construct(*d.Construction); err == nil {
-					s = betaLabel(*d.Dist) + ": a quick construction, " + c.Describe() + "."
+					s = betaLabel(*d.Dist) + ": a quick construction, " + constructionWords(c) + "."
 				}
 			}
 			if d.RoundOpen {

@@ -83,8 +83,8 @@ func sourceLabel(s workshop.PriorSource) string {
 // the judgement as the panel's table writes an answer, and how far the
 // agreed Beta is from it.
 func priorOrigin(q workshop.Question, a workshop.AgreedPrior) string {
-	if words := a.ConstructionWords(); words != "" {
-		return "quick construction: " + words
+	if c, ok := a.Constructed(); ok {
+		return "quick construction: " + constructionWords(c)
 	}
 	if a.Source == workshop.PriorFromConsensus && a.Consensus != nil {
 		s := sourceLabel(a.Source) + " (" + answerSummary(q, *a.Consensus) + ")"

@@ -25,6 +25,15 @@ import (
 // quickPriorsPath is the workshop's quick-priors page.
 func quickPriorsPath(ws int64) string { return workshopPath(ws) + "/quick-priors" }
 
+// constructionWords says how a quick construction made its prior, with
+// its Beta and the coverage it holds written as the pages write them
+// beside it (sv, pct): "Beta(3, 20000)" under the card's Beta(3, 20000),
+// where the record's words (elicit.Construction.Describe) keep every
+// figure, "Beta(3, 19997.4)".
+func constructionWords(c elicit.Construction) string {
+	return c.DescribeIn(elicit.Figures{Shape: sv, Percent: pct})
+}
+
 // The construction form's fields. One form reads them for the quick-priors
 // page and the question page alike (readConstruction).
 const (

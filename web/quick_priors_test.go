@@ -34,7 +34,7 @@ func TestQuickPriorsPage(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		for _, want := range []string{`id="result-` + string(m) + `"`, priorLabel(c.Dist), pct(c.CoverageAchieved), htmlEscape(c.Describe())} {
+		for _, want := range []string{`id="result-` + string(m) + `"`, priorLabel(c.Dist), pct(c.CoverageAchieved), htmlEscape(constructionWords(c))} {
 			if !strings.Contains(body, want) {
 				t.Errorf("%s: page lacks %q", m, want)
 			}
@@ -133,7 +133,7 @@ func TestConstructionRecordedAsTheAgreedPrior(t *testing.T) {
 		t.Fatalf("stored %+v, want %+v from %+v", cur, want.Dist, in)
 	}
 	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
-	if !strings.Contains(panel, "quick construction: "+htmlEscape(want.Describe())) {
+	if !strings.Contains(panel, "quick construction: "+htmlEscape(constructionWords(want))) {
 		t.Error("the panel does not say which construction made the agreed prior")
 	}
 	_, js := h.get(workshopPath(ws.ID) + "/export.json")
@@ -144,7 +144,7 @@ func TestConstructionRecordedAsTheAgreedPrior(t *testing.T) {
 	if a := rec.Questions[0].AgreedPrior; a == nil || a.Construction == nil || *a.Construction != in {
 		t.Fatalf("record's agreed prior %+v", a)
 	}
-	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "a quick construction, "+htmlEscape(want.Describe())) {
+	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "a quick construction, "+htmlEscape(constructionWords(want))) {
 		t.Error("the decision log does not say which construction made the prior")
 	}
 	_, csv := h.get(workshopPath(ws.ID) + "/priors.csv")
@@ -228,5 +228,64 @@ func TestQuickPriorBeyondDoubleIsSaid(t *testing.T) {
 	}
 	if !strings.Contains(body, htmlEscape("The 5% point is about 3.2e-4999, and the 95% point is about 1 − 3.2e-4999")) {
 		t.Errorf("page does not say where the 5%% and 95%% points are:\n%s", body)
+	}
+}
+
+// TestQuickPriorsWriteOneBetaOneWay: the quick priors page wrote "Beta(3,
+// 20000)" over a description that said "= Beta(3, 19997.4)" for the same
+// prior, and a coverage the card wrote to three figures to four in the
+// words under it. A page writes a Beta, and a percentage, one way: the
+// description as the card around it does (sv, pct), on the quick priors
+// page, on the question's panel once the prior is agreed, and in the log.
+// The record keeps every figure (elicit.Construction.Describe, which
+// `parley prior` prints and the priors CSV carries).
+func TestQuickPriorsWriteOneBetaOneWay(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := strconv.FormatInt(qs[0].ID, 10)
+	qp := quickPriorsPath(ws.ID)
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20000.4, Upper: 1}
+	c, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	full := strconv.FormatFloat(c.Dist.Beta.Beta, 'g', -1, 64) // 19997.4
+	if full == sv(c.Dist.Beta.Beta) {
+		t.Fatalf("the case does not tell the two writings apart: %s", full)
+	}
+	shown := "Beta(" + sv(c.Dist.Alpha) + ", " + sv(c.Dist.Beta.Beta) + ")"
+	_, body := h.get(qp + "?question=" + q + "&construction=equivalent_sample&c_successes=3&c_trials=20000.4")
+	if !strings.Contains(body, shown) || !strings.Contains(body, "Beta(s, n − s) = "+shown) {
+		t.Errorf("the page does not write the description's Beta as its own %s", shown)
+	}
+	if strings.Contains(body, full) {
+		t.Errorf("the page writes the Beta's β as %s beside %s", full, shown)
+	}
+	if !strings.Contains(c.Describe(), "= Beta(3, "+full+")") {
+		t.Errorf("the record's words lost their figures: %s", c.Describe())
+	}
+	// An interval: "it holds" the coverage the card says it achieves.
+	_, body = h.get(qp + "?question=" + q + "&construction=interval&c_low=0.03&c_high=0.12&c_coverage=0.9")
+	for _, m := range []elicit.ConstructionMethod{elicit.MethodIntervalMoments, elicit.MethodIntervalQuantiles} {
+		ic, err := elicit.Construct(elicit.ConstructionInput{Method: m, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1})
+		if err != nil {
+			t.Fatal(err)
+		}
+		if want := "it holds " + pct(ic.CoverageAchieved); !strings.Contains(body, want) {
+			t.Errorf("%s: the description does not say %q, as the card does", m, want)
+		}
+	}
+	// Agreed, the panel and the log word it as the page did (the panel's
+	// code snippets for Stan, R, … keep every figure, as code must).
+	form := url.Values{"question": {q}, "construction": {"equivalent_sample"}, "c_successes": {"3"}, "c_trials": {"20000.4"},
+		"rationale": {"About 3 in 20,000 (invented)."}, "confirm_open": {"on"}}
+	if res, body := h.post(qp+"/agree", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record the construction: %d %s", res.StatusCode, body)
+	}
+	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
+	_, log := h.get(workshopPath(ws.ID) + "/log")
+	for name, page := range map[string]string{"the panel": panel, "the log": log} {
+		if !strings.Contains(page, "= "+shown) || strings.Contains(page, "= Beta(3, "+full+")") {
+			t.Errorf("%s does not write the construction's Beta as %s", name, shown)
+		}
 	}
 }

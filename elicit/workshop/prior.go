@@ -68,12 +68,24 @@ func underField(prefix string, err error) error {
 // inputs (elicit.Construction.Describe); "" for a prior of another source
 // or one whose construction cannot be made again.
 func (p AgreedPrior) ConstructionWords() string {
-	if p.Source != PriorFromConstruction || p.Construction == nil {
-		return ""
-	}
-	c, err := elicit.Construct(*p.Construction)
-	if err != nil {
+	c, ok := p.Constructed()
+	if !ok {
 		return ""
 	}
 	return c.Describe()
+}
+
+// Constructed makes a constructed prior's construction again from its
+// kept inputs, for a caller that words it its own way
+// (elicit.Construction.DescribeIn); false for a prior of another source
+// or one whose construction cannot be made again.
+func (p AgreedPrior) Constructed() (elicit.Construction, bool) {
+	if p.Source != PriorFromConstruction || p.Construction == nil {
+		return elicit.Construction{}, false
+	}
+	c, err := elicit.Construct(*p.Construction)
+	if err != nil {
+		return elicit.Construction{}, false
+	}
+	return c, true
 }
