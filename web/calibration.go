@@ -489,9 +489,10 @@ func (s *Server) scoringProblem(err error, d workshopData) string {
 		s.log.Error("classical model", "workshop", d.Workshop.ID, "err", err)
 		return "it failed; the details are in the server log"
 	}
+	rule := scoringRuleWords(ie)
 	var se *workshop.ScoringError
 	if !errors.As(err, &se) || se.QuestionID == 0 {
-		return string(ie.Rule)
+		return rule
 	}
 	var q workshop.Question
 	for _, c := range d.Questions {
@@ -501,7 +502,7 @@ func (s *Server) scoringProblem(err error, d workshopData) string {
 	}
 	where := "calibration question Q" + strconv.Itoa(q.Position) + " " + q.Quantity
 	if se.ExpertID == 0 {
-		return where + ": " + string(ie.Rule)
+		return where + ": " + rule
 	}
 	name := ""
 	for _, e := range d.Experts {
@@ -511,7 +512,7 @@ func (s *Server) scoringProblem(err error, d workshopData) string {
 	}
 	answer := name + "'s answer to " + where
 	if se.Quantile < 0 {
-		return answer + ": " + string(ie.Rule)
+		return answer + ": " + rule
 	}
 	// The value to the last digit: rounded, a quantile a hair from its
 	// neighbour or a bound would read as equal to it.
@@ -521,7 +522,32 @@ func (s *Server) scoringProblem(err error, d workshopData) string {
 			what += ", " + strconv.FormatFloat(rv.Answer.Values[se.Quantile], 'g', -1, 64) + ","
 		}
 	}
-	return answer + ": " + what + " " + string(ie.Rule)
+	return answer + ": " + what + " " + rule
+}
+
+// scoringRuleWords says the classical model's rule in the facilitator's
+// words. elicit words its rules for `parley calibrate`, whose file has a
+// realization column and whose --overshoot sets how far each question's
+// range is widened; the page has neither, and speaks of the true value and
+// of the range widened by 10% of its width on each side
+// (elicit.DefaultOvershoot, the widening the page scores with). The rule
+// itself, what a caller compares, is unchanged.
+func scoringRuleWords(ie *elicit.InputError) string {
+	widened := "widened by " + pct(elicit.DefaultOvershoot) + " of its width on each side"
+	switch {
+	case ie.Rule == elicit.RuleRangeCollapsed:
+		return "the experts' answers and the true value lie so close together that the span from the lowest of them to the highest, " + widened +
+			", rounds back onto them, and the classical model cannot score the question"
+	case ie.Rule == elicit.RuleRangeOverflow:
+		return "a calibration question's span from the lowest answer or true value to the highest, " + widened +
+			", goes past the largest number the computer holds, and the classical model cannot score it"
+	case strings.HasPrefix(ie.Field, "realisations["):
+		if ie.Rule == elicit.RuleInRange {
+			return "its true value must lie within the question's bounds"
+		}
+		return "its true value " + string(ie.Rule)
+	}
+	return string(ie.Rule)
 }
 
 func isInputError(err error) bool {
