@@ -180,7 +180,7 @@ func (s *Server) notFound(w http.ResponseWriter, r *http.Request) {
 }
 
 // fail answers an error from the domain or the store: not found → 404,
-// bad input → 400 naming the field and rule, round closed → 409,
+// bad input → 400 with a page that says so in words (refusalPage), round closed → 409,
 // anything else → 500 with details only in the log.
 func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	var ie *elicit.InputError
@@ -188,8 +188,8 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	case errors.Is(err, workshop.ErrNotFound):
 		s.notFound(w, r)
 	case errors.As(err, &ie):
-		s.renderPage(w, r, http.StatusBadRequest, pageMeta{Title: "Not accepted"},
-			messagePage("Not accepted", ie.Field+": "+string(ie.Rule)+detailSuffix(ie.Detail)))
+		v := newRefusal(r, ie)
+		s.renderPage(w, r, http.StatusBadRequest, pageMeta{Title: v.Title}, refusalPage(v))
 	case errors.Is(err, workshop.ErrRetired):
 		s.renderPage(w, r, http.StatusGone, pageMeta{Title: "Question withdrawn"},
 			messagePage("Question withdrawn", "The facilitator has withdrawn this question, so it takes no answers. Your other questions are on your own page; your private link still works."))
