@@ -238,6 +238,21 @@ func TestQuickPriorsInBrowser(t *testing.T) {
 		}
 		shots.take(fac, fmt.Sprintf("quick-priors-interval-%d", w))
 	}
+	// A rare event's prior: 3 successes in 20000.4 trials, Beta(3,
+	// 19997.4). At 390 px the picture's last x label, "0.0006", stood
+	// centred on the plot's right edge and ran out of the picture's box.
+	rare := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/quick-priors?question=" + strconv.FormatInt(d.qs[0].ID, 10) +
+		"&construction=equivalent_sample&c_successes=3&c_trials=20000.4"
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 900, w < 600)
+		if st := fac.open(rare); st != http.StatusOK {
+			t.Fatalf("quick priors for a rare event at %d px: %d", w, st)
+		}
+		fac.sees("the rare event's prior", "3 successes in 20000.4 imagined trials")
+		fits(t, fac, "quick priors for a rare event", w)
+		shots.take(fac, fmt.Sprintf("quick-priors-rare-%d", w))
+	}
+	fac.open(here)
 	fac.fill(`form[action$="/quick-priors/agree"]`, "rationale", "Between 3% and 12%, 90% sure (invented).")
 	fac.do("confirm the open round", chromedp.Click(chromedp.CSS(`#f-confirm_open`)))
 	if st := fac.load("record the quantile match", chromedp.Click(chromedp.CSS(`button[value="interval_quantiles"]`))); st != http.StatusOK {

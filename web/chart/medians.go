@@ -166,8 +166,12 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
 	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
 	d.TickY = coord(axisY + 20)
+	px := tickLabelPx(lay.Name)
+	if lay.Name == wideLayout.Name {
+		px = medianTickPx
+	}
 	for _, t := range ts {
-		d.Ticks = append(d.Ticks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: t.Label})
+		d.Ticks = append(d.Ticks, xTick(f.px(t.Value), t.Label, t.Label, px, w))
 	}
 	boxTop := stripTop - 14
 	d.BoxX, d.BoxW = coord(f.px(sp.LowerQuartile)), coord(math.Max(2, f.px(sp.UpperQuartile)-f.px(sp.LowerQuartile)))

@@ -65,7 +65,7 @@ func newPlot(id string, lay plotLayout, x0, x1, y0, y1 float64, xTitle, yTitle s
 	g.Axes.YTitleX, g.Axes.YTitleY = coord(tx), coord(ty)
 	g.Axes.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	for _, t := range ticks(x0, x1, lay.XTicks) {
-		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(f.px(t.Value)), Label: t.Label, Value: t.Label})
+		g.XTicks = append(g.XTicks, xTick(f.px(t.Value), t.Label, t.Label, tickLabelPx(lay.Name), lay.width()))
 	}
 	g.XLabelY = coord(f.bottom() + 18)
 	g.XTitleX, g.XTitleY = coord(f.Left+f.Width/2), coord(f.bottom()+42)

@@ -72,3 +72,58 @@ func ticks(lo, hi float64, n int) []tick {
 	}
 	return ts
 }
+
+// tickLabelEm is a tick label's advance width in ems, a character at a
+// time, at about the widest the pictures' fonts draw it (DejaVu Sans,
+// Debian's default sans-serif: digits 0.636 em, the point 0.318 em, the
+// percent sign 0.95 em); narrower fonts leave a little room to spare.
+func tickLabelEm(label string) float64 {
+	w := 0.0
+	for _, r := range label {
+		switch {
+		case r >= '0' && r <= '9':
+			w += 0.64
+		case r == '.' || r == ',' || r == ' ':
+			w += 0.33
+		case r == '-':
+			w += 0.37
+		case r == '%':
+			w += 0.95
+		default:
+			w += 0.85
+		}
+	}
+	return w
+}
+
+// tickLabelPx is the x tick labels' font size in a layout, as
+// static/chart.css sets it (the median strip's wide drawing sets its
+// own, medianTickPx).
+func tickLabelPx(layout string) float64 {
+	if layout == compactLayout.Name {
+		return 14
+	}
+	return 13
+}
+
+// medianTickPx is the median strip's wide tick labels' font size
+// (.chart-medians .chart-wide .tick-label), drawn in a narrow column.
+const medianTickPx = 17
+
+// xTick is an x tick at column pos of a picture width units wide, its
+// label fontPx high, with the label centred under it unless that would
+// take the label out of the picture: then the label is moved in until it
+// fits, a unit from the edge. A tick on the plot's right edge stood half
+// its label beyond the compact picture's narrow right margin ("0.0006"
+// for a rare event's prior, cut on a phone).
+func xTick(pos float64, label, value string, fontPx, width float64) tickGeom {
+	half := tickLabelEm(label)*fontPx/2 + 1
+	at := pos
+	if at+half > width {
+		at = width - half
+	}
+	if at-half < 0 {
+		at = half
+	}
+	return tickGeom{Pos: coord(pos), LabelX: coord(at), Label: label, Value: value}
+}

@@ -65,9 +65,10 @@ const (
 
 // tickGeom is one tick at a pixel position.
 type tickGeom struct {
-	Pos   string // pixel x (x ticks) or y (y ticks)
-	Label string
-	Value string // the data value, for tests and assistive tools
+	Pos    string // pixel x (x ticks) or y (y ticks)
+	LabelX string // an x tick's label's centre, kept inside the picture (xTick)
+	Label  string
+	Value  string // the data value, for tests and assistive tools
 }
 
 // axesGeom is one plot area with its gridlines and y axis.
@@ -373,7 +374,7 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 		if k.percent {
 			label = FormatPercent(t.Value)
 		}
-		g.XTicks = append(g.XTicks, tickGeom{Pos: coord(dens.px(t.Value)), Label: label, Value: t.Label})
+		g.XTicks = append(g.XTicks, xTick(dens.px(t.Value), label, t.Label, tickLabelPx(lay.Name), lay.width()))
 	}
 	g.Density = yAxes(lay, dens, ticks(0, top, densityTicksN), "density", "chart-density")
 	var pt []tick
