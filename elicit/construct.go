@@ -212,32 +212,42 @@ func (c Construction) Describe() string {
 // Figures says how a description writes its numbers, so that a page
 // writes the description's Beta and coverage as it writes them elsewhere
 // on the same page: Shape writes a Beta's α or β, Percent a probability
-// as a percentage, its sign included.
+// as a percentage, its sign included, and Typed, when set, the person's
+// own inputs and the question's bounds (nil: %g).
 type Figures struct {
 	Shape   func(float64) string
 	Percent func(float64) string
+	Typed   func(float64) string
+}
+
+// typed writes an input by f.Typed, or %g.
+func (f Figures) typed(v float64) string {
+	if f.Typed != nil {
+		return f.Typed(v)
+	}
+	return fmt.Sprintf("%g", v)
 }
 
 // DescribeIn says in one line how the prior was made, as Describe does,
-// with the Beta and the coverage it holds written by f; the person's own
-// inputs are written as typed (%g).
+// with the Beta and the coverage it holds written by f, and the person's
+// own inputs as f.Typed writes them (%g when it is nil).
 func (c Construction) DescribeIn(f Figures) string {
 	in := c.Input
 	scale := ""
 	if in.Lower != 0 || in.Upper != 1 {
-		scale = fmt.Sprintf(" on [%g, %g]", in.Lower, in.Upper)
+		scale = " on [" + f.typed(in.Lower) + ", " + f.typed(in.Upper) + "]"
 	}
 	switch in.Method {
 	case MethodUniform:
 		return "uniform" + scale + ", Beta(1, 1): every value equally likely"
 	case MethodEquivalentSample:
-		return fmt.Sprintf("equivalent prior sample: %g successes in %g imagined trials, Beta(s, n − s) = Beta(%s, %s)", in.Successes, in.Trials, f.Shape(c.Dist.Alpha), f.Shape(c.Dist.Beta.Beta))
+		return fmt.Sprintf("equivalent prior sample: %s successes in %s imagined trials, Beta(s, n − s) = Beta(%s, %s)", f.typed(in.Successes), f.typed(in.Trials), f.Shape(c.Dist.Alpha), f.Shape(c.Dist.Beta.Beta))
 	case MethodMeanSD:
-		return fmt.Sprintf("mean %g and standard deviation %g%s by the method of moments", in.Mean, in.SD, scale)
+		return fmt.Sprintf("mean %s and standard deviation %s%s by the method of moments", f.typed(in.Mean), f.typed(in.SD), scale)
 	case MethodIntervalMoments:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by moment match (midpoint as mean, half-width / z as sd); it holds %s", percentOf(in.Coverage), in.Low, in.High, scale, f.Percent(c.CoverageAchieved))
+		return fmt.Sprintf("central %s%% interval [%s, %s]%s by moment match (midpoint as mean, half-width / z as sd); it holds %s", percentOf(in.Coverage), f.typed(in.Low), f.typed(in.High), scale, f.Percent(c.CoverageAchieved))
 	case MethodIntervalQuantiles:
-		return fmt.Sprintf("central %s%% interval [%g, %g]%s by exact quantile match; it holds %s", percentOf(in.Coverage), in.Low, in.High, scale, f.Percent(c.CoverageAchieved))
+		return fmt.Sprintf("central %s%% interval [%s, %s]%s by exact quantile match; it holds %s", percentOf(in.Coverage), f.typed(in.Low), f.typed(in.High), scale, f.Percent(c.CoverageAchieved))
 	}
 	return string(in.Method)
 }

@@ -29,10 +29,14 @@ func quickPriorsPath(ws int64) string { return workshopPath(ws) + "/quick-priors
 // its Beta and the coverage it holds written as the pages write them
 // beside it (sv, pct): "Beta(3, 20000)" under the card's Beta(3, 20000),
 // where the record's words (elicit.Construction.Describe) keep every
-// figure, "Beta(3, 19997.4)".
+// figure, "Beta(3, 19997.4)"; and the inputs as typed (input.Typed): a
+// low end typed 0.00003 read "3e-05" above the card's 5% point 0.00003.
 func constructionWords(c elicit.Construction) string {
-	return c.DescribeIn(elicit.Figures{Shape: sv, Percent: pct})
+	return c.DescribeIn(elicit.Figures{Shape: sv, Percent: pct, Typed: asTyped})
 }
+
+// asTyped writes a number the person typed as typed (input.Typed).
+func asTyped(v float64) string { return input.Typed(v, false) }
 
 // The construction form's fields. One form reads them for the quick-priors
 // page and the question page alike (readConstruction).
@@ -107,6 +111,13 @@ func (r quickResult) weightWords() string {
 	}
 	return "α + β = " + elicit.ESSText(r.Worth.Trials) + ". " + alphaBetaHint
 }
+
+// pointIn writes a point of the prior d, its mean or a quantile, as the
+// picture's table of percentiles under it and the question's panel write
+// a prior's points (fvIn: chart.FormatWithin, plain decimals down to
+// 1e-9): the card wrote a rare event's 5% point "4.089e-5" (fv) above
+// the picture's "0.00004089".
+func pointIn(d elicit.ScaledBeta, x float64) string { return fvIn(x, d.Lower, d.Upper) }
 
 // alphaBetaHint says what α + β tells on a scale other than [0, 1].
 const alphaBetaHint = "α + β says how concentrated the prior is: the larger, the narrower. " +

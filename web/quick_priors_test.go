@@ -4,6 +4,7 @@ import (
 	"context"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -11,6 +12,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // The quick-priors page makes each construction by elicit.Construct, the
@@ -286,6 +288,72 @@ func TestQuickPriorsWriteOneBetaOneWay(t *testing.T) {
 	for name, page := range map[string]string{"the panel": panel, "the log": log} {
 		if !strings.Contains(page, "= "+shown) || strings.Contains(page, "= Beta(3, "+full+")") {
 			t.Errorf("%s does not write the construction's Beta as %s", name, shown)
+		}
+	}
+}
+
+// TestQuickPriorsWriteAPointOneWay: the quick priors card wrote a rare
+// event's 5% point "4.089e-5" in its summary and "0.00004089" in the
+// percentiles table under its picture, one number two ways. The card,
+// and the interval's comparison table, write a prior's mean and
+// quantiles as the picture's table and the question's panel do, in plain
+// decimals down to 1e-9 (chart.FormatWithin, DEVELOPERS.md's rule for a
+// value of a judgement), each the same wherever the page writes it; the
+// words under the Beta write the typed inputs as typed (input.Typed),
+// where %g wrote a low end of 0.00003 "3e-05".
+func TestQuickPriorsWriteAPointOneWay(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := strconv.FormatInt(qs[0].ID, 10)
+	qp := quickPriorsPath(ws.ID)
+	for _, tc := range []struct {
+		query string
+		in    []elicit.ConstructionInput
+	}{
+		{"construction=equivalent_sample&c_successes=3&c_trials=20000.4",
+			[]elicit.ConstructionInput{{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20000.4, Upper: 1}}},
+		{"construction=interval&c_low=0.00003&c_high=0.0003&c_coverage=0.9",
+			[]elicit.ConstructionInput{{Method: elicit.MethodIntervalMoments, Low: 0.00003, High: 0.0003, Coverage: 0.9, Upper: 1},
+				{Method: elicit.MethodIntervalQuantiles, Low: 0.00003, High: 0.0003, Coverage: 0.9, Upper: 1}}},
+	} {
+		res, body := h.get(qp + "?question=" + q + "&" + tc.query)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: status %d", tc.query, res.StatusCode)
+		}
+		exponents := 0
+		for _, in := range tc.in {
+			c, err := elicit.Construct(in)
+			if err != nil {
+				t.Fatal(err)
+			}
+			d := c.Dist
+			for _, x := range []float64{d.Mean(), d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)} {
+				plain := chart.FormatWithin(x, d.Lower, d.Upper, false)
+				if strings.Contains(plain, "e") {
+					t.Fatalf("%s: %v written %s", in.Method, x, plain)
+				}
+				if e := chart.FormatValue(x); e != plain {
+					exponents++
+					if regexp.MustCompile(`(^|[^0-9.])` + regexp.QuoteMeta(e) + `($|[^0-9])`).MatchString(body) {
+						t.Errorf("%s: the page writes %s as %s beside %s", in.Method, plain, e, plain)
+					}
+				}
+				if !strings.Contains(body, plain) {
+					t.Errorf("%s: the page does not write %s", in.Method, plain)
+				}
+			}
+			// The summary and the picture's percentiles table both write
+			// the 5% point.
+			if p5 := chart.FormatWithin(d.Quantile(0.05), d.Lower, d.Upper, false); strings.Count(body, p5) < 2 {
+				t.Errorf("%s: the 5%% point %s is written %d times, want in the summary and under the picture", in.Method, p5, strings.Count(body, p5))
+			}
+		}
+		if exponents == 0 {
+			t.Fatalf("%s: the case does not tell the two writings apart", tc.query)
+		}
+		// The words say the typed ends as typed: "[3e-05, 0.0003]" stood
+		// above a 5% point of 0.00003.
+		if strings.Contains(tc.query, "c_low") && !strings.Contains(body, "interval [0.00003, 0.0003]") {
+			t.Errorf("%s: the words do not write the interval as typed, [0.00003, 0.0003]", tc.query)
 		}
 	}
 }
