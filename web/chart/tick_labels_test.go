@@ -91,9 +91,11 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 				where += " in percent"
 			}
 			checkTickLabels(t, where, "<g>"+b.String()+"</g>", tickLabelPx(lay.Name), lay.width())
+			checkTicksInWindow(t, where, g.XTicks, x0, x1, dens)
 		}
 		for _, lay := range plotLayouts {
 			g := newPlot("p", lay, x0, x1, 0, 1, "x", "y", nil)
+			checkTicksInWindow(t, lay.Name+" study plot", g.XTicks, x0, x1, g.f)
 			for _, tk := range g.XTicks {
 				x, _ := strconv.ParseFloat(tk.LabelX, 64)
 				tw := drawnLabelWidth(tk.Label, tickLabelPx(lay.Name))
@@ -104,6 +106,26 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 		}
 		if t.Failed() {
 			return
+		}
+	}
+}
+
+// checkTicksInWindow fails when a tick lies outside the window [x0, x1],
+// its gridline off the plot f, or its label does not read as its value.
+func checkTicksInWindow(t *testing.T, where string, ts []tickGeom, x0, x1 float64, f frame) {
+	t.Helper()
+	if len(ts) < 2 {
+		t.Errorf("%s over [%g, %g]: %d ticks", where, x0, x1, len(ts))
+	}
+	for _, tk := range ts {
+		pos, _ := strconv.ParseFloat(tk.Pos, 64)
+		v, err := strconv.ParseFloat(tk.Value, 64)
+		if err != nil || pos < f.Left-0.01 || pos > f.right()+0.01 {
+			t.Errorf("%s over [%g, %g]: tick %q at %v, off the plot from %v to %v", where, x0, x1, tk.Value, pos, f.Left, f.right())
+			continue
+		}
+		if math.Abs(f.px(v)-pos) > 0.01 {
+			t.Errorf("%s over [%g, %g]: the tick labelled %q stands at %v, where %g is %v", where, x0, x1, tk.Value, pos, v, f.px(v))
 		}
 	}
 }

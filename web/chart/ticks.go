@@ -32,10 +32,13 @@ func niceStep(span float64, n int) float64 {
 }
 
 // stepDecimals is the number of decimals that shows every multiple of
-// step exactly, so labels carry no floating-point noise.
+// step exactly, so labels carry no floating-point noise. The noise is
+// judged relative to the step: an absolute 1e-9 took a step of 5e-10 for
+// a whole number, and every tick of a window under about 4e-9 wide read
+// "0" and stood at 0, far outside the plot.
 func stepDecimals(step float64) int {
 	d := 0
-	for s := step; d < 15 && math.Abs(s-math.Round(s)) > 1e-9*math.Max(1, s); s *= 10 {
+	for s := step; d < 40 && math.Abs(s-math.Round(s)) > 1e-6*s; s *= 10 {
 		d++
 	}
 	return d
