@@ -284,7 +284,7 @@ func (w eventWriter) questionsOf(ids []int64) string {
 			names[i] = "question " + strconv.FormatInt(q.ID, 10)
 		}
 	}
-	return strconv.Itoa(len(names)) + " questions: " + strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1]
+	return strconv.Itoa(len(names)) + " questions: " + wordList(names)
 }
 
 func (w eventWriter) question(id int64) string {

@@ -79,6 +79,21 @@ func serveOn(t *testing.T, st Store) (post func(path string, form url.Values) (i
 	}
 }
 
+// facilitatorOn is serveOn signed in as the facilitator, with a secret
+// issued in db (the store st wraps).
+func facilitatorOn(t *testing.T, db Store, st Store) (post func(path string, form url.Values) (int, string)) {
+	t.Helper()
+	post = serveOn(t, st)
+	secret, err := IssueFacilitatorSecret(context.Background(), db)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if code, _ := post("/signin", url.Values{"secret": {secret}}); code != http.StatusSeeOther {
+		t.Fatalf("sign in: %d", code)
+	}
+	return post
+}
+
 // TestSaveOnAFullDisk: when the server cannot write (disk full, I/O
 // error), an expert's save and every facilitator form answer 503 with the
 // form again, the typed values kept, and a sentence saying nothing was
@@ -86,14 +101,7 @@ func serveOn(t *testing.T, st Store) (post func(path string, form url.Values) (i
 // The real full disk is in systemtest (TestSaveOnAFullDisk there).
 func TestSaveOnAFullDisk(t *testing.T) {
 	h, ws, qs, es, links := seeded(t)
-	post := serveOn(t, fullDisk{h.db})
-	secret, err := IssueFacilitatorSecret(context.Background(), h.db)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if code, _ := post("/signin", url.Values{"secret": {secret}}); code != http.StatusSeeOther {
-		t.Fatalf("sign in: %d", code)
-	}
+	post := facilitatorOn(t, h.db, fullDisk{h.db})
 	before := h.counts(ws.ID)
 
 	// The expert.
@@ -202,14 +210,7 @@ func TestReopenOnAFullDiskIsSaidInItsForm(t *testing.T) {
 	if err := h.db.SetRound(context.Background(), ws.ID, ws.Round, false, ""); err != nil {
 		t.Fatal(err)
 	}
-	post := serveOn(t, fullDisk{h.db})
-	secret, err := IssueFacilitatorSecret(context.Background(), h.db)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if code, _ := post("/signin", url.Values{"secret": {secret}}); code != http.StatusSeeOther {
-		t.Fatalf("sign in: %d", code)
-	}
+	post := facilitatorOn(t, h.db, fullDisk{h.db})
 	code, page := post(workshopPath(ws.ID)+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"Typed reopen reason (invented)"}})
 	if code != http.StatusServiceUnavailable {
 		t.Fatalf("reopen on a full disk: %d, want 503", code)

@@ -37,14 +37,7 @@ func (o otherTabFirst) SetRound(ctx context.Context, id int64, round int, open b
 // with a link to the workshop's overview. Nothing more was saved.
 func TestRefusalPageSaysWhatHappened(t *testing.T) {
 	h, ws, _, _, _ := seeded(t)
-	post := serveOn(t, otherTabFirst{h.db})
-	secret, err := IssueFacilitatorSecret(context.Background(), h.db)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if code, _ := post("/signin", url.Values{"secret": {secret}}); code != http.StatusSeeOther {
-		t.Fatalf("sign in: %d", code)
-	}
+	post := facilitatorOn(t, h.db, otherTabFirst{h.db})
 	code, page := post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}, "reason": {"Round 1 discussed (invented)"}})
 	if code != http.StatusBadRequest {
 		t.Fatalf("the second close of round 1: %d, want 400\n%s", code, page)
