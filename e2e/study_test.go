@@ -22,6 +22,10 @@ import (
 // named), sees the posterior with its picture and the conflict check,
 // plans the study and sees the assurance curve; at 390 and 1366 px the
 // page fits and axe-core finds nothing serious.
+// proportion writes a value of the study's proportion as the page does,
+// as a point on [0, 1] (chart.FormatWithin).
+func proportion(x float64) string { return chart.FormatWithin(x, 0, 1, false) }
+
 func TestStudyInBrowser(t *testing.T) {
 	site, d := startDemo(t)
 	ctx := context.Background()
@@ -72,8 +76,8 @@ func TestStudyInBrowser(t *testing.T) {
 	}
 	lead.sees("posterior", "All 2 batches",
 		fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(u.Posterior.Alpha), chart.FormatValue(u.Posterior.Beta)),
-		chart.FormatValue(u.Interval[0])+" to "+chart.FormatValue(u.Interval[1]),
-		chart.FormatValue(u.HDI[0])+" to "+chart.FormatValue(u.HDI[1]), u.Reading)
+		proportion(u.Interval[0])+" to "+proportion(u.Interval[1]),
+		proportion(u.HDI[0])+" to "+proportion(u.HDI[1]), u.Reading)
 	if n := lead.count(`#update svg.chart-wide path.curve-posterior`); n != 2 {
 		t.Errorf("the update picture draws %d posterior paths, want density and CDF", n)
 	}

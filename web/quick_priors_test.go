@@ -357,3 +357,82 @@ func TestQuickPriorsWriteAPointOneWay(t *testing.T) {
 		}
 	}
 }
+
+// TestASpreadReadsAsThePointsBesideIt: a rare event's prior, Beta(3,
+// 20000), had its SD written "8.658e-5" (fv, exponents below 1e-4)
+// beside its 5% point "0.00004089" (fvIn, plain decimals down to 1e-9),
+// one line in two ways, on every page that writes a prior's SD. Every SD,
+// and every mean on the line or in the table of such points, reads as
+// the points do (chart.FormatSpread; the study's posterior, a proportion,
+// by fvIn on [0, 1]): the quick priors card, the question's panel (the
+// pool's table, its best single Beta, the agreed prior), the study page
+// (the agreed prior, the posterior, the plan, the comparison of priors)
+// and the report (the pool's line, the agreed priors' table, the
+// posterior's line).
+func TestASpreadReadsAsThePointsBesideIt(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	q := qs[0]
+	ctx := context.Background()
+	// Four experts judge the rare event (invented values), so the pool
+	// and its single Beta are rare too.
+	for i, e := range es {
+		vs := [][]float64{{0.00003, 0.0001, 0.00025}, {0.00005, 0.00015, 0.0004}, {0.00002, 0.00008, 0.0002}, {0.00004, 0.00012, 0.0003}}[i%4]
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: vs}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	agreeSample(t, h, q.ID, 3, 20003, "About 3 in 20,000 (invented).")
+	sp := studyPath(ws.ID, q.ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"1000"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	prior := elicit.Beta{Alpha: 3, Beta: 20000}
+	post := elicit.Beta{Alpha: 3, Beta: 21000}
+	for _, x := range []float64{prior.SD(), post.SD()} {
+		if !strings.Contains(chart.FormatValue(x), "e-") {
+			t.Fatalf("the case does not tell the two writings apart: %v is %s", x, chart.FormatValue(x))
+		}
+	}
+	// A mean or an SD as the pages label it: in a table cell labelled
+	// for a phone, in a row headed by it, or in words ("Mean x, SD y").
+	labelled := []*regexp.Regexp{
+		regexp.MustCompile(`data-label="(?:SD|Mean)">\s*([^<]*?)\s*<`),
+		regexp.MustCompile(`(?:SD|[Mm]ean|Mean, SD)</th>\s*<td class="num">\s*([^<]*?)\s*<`),
+		regexp.MustCompile(`\b(?:SD|[Mm]ean)\s+(-?[0-9][0-9.]*(?:e[-+]?[0-9]+)?)`),
+	}
+	exponent := regexp.MustCompile(`[0-9]e[-+]?[0-9]`)
+	for _, page := range []struct {
+		name, path string
+		min        int      // labelled means and SDs the page writes at least
+		want       []string // SDs it writes, plain
+	}{
+		{"quick priors", quickPriorsPath(ws.ID) + "?question=" + strconv.FormatInt(q.ID, 10) + "&construction=equivalent_sample&c_successes=3&c_trials=20003",
+			2, []string{chart.FormatSpread(prior.SD())}},
+		{"the panel", questionPath(ws.ID, q.ID), 6, []string{chart.FormatSpread(prior.SD())}},
+		{"the study", sp + "?trials=100", 6, []string{chart.FormatSpread(prior.SD()), chart.FormatSpread(post.SD())}},
+		{"the report", workshopPath(ws.ID) + "/report", 4, []string{chart.FormatSpread(post.SD())}},
+	} {
+		res, body := h.get(page.path)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: status %d", page.name, res.StatusCode)
+		}
+		found := 0
+		for _, re := range labelled {
+			for _, m := range re.FindAllStringSubmatch(body, -1) {
+				found++
+				if exponent.MatchString(m[1]) {
+					t.Errorf("%s: a mean or an SD in exponent notation: %q", page.name, m[0])
+				}
+			}
+		}
+		if found < page.min {
+			t.Errorf("%s: %d means and SDs found, want at least %d", page.name, found, page.min)
+		}
+		for _, w := range page.want {
+			if !strings.Contains(body, w) {
+				t.Errorf("%s: does not write the SD %s", page.name, w)
+			}
+		}
+	}
+}

@@ -161,6 +161,13 @@ func formatWithin(x, lower, upper float64, percent bool, min int) string {
 	return formatSigFixedFrom(x, sig, -9)
 }
 
+// FormatSpread writes a standard deviation, or another amount written on
+// the line or in the table of values FormatWithin writes (a count's mean
+// and SD, say), in their style: FormatValue's four significant figures,
+// in plain decimals down to 1e-9. A rare event's SD beside its 5% point
+// of 0.00004089 is "0.00008658", not "8.658e-5".
+func FormatSpread(v float64) string { return formatSigFixedFrom(v, 4, -9) }
+
 // FormatPercent writes a probability as a percentage without noise:
 // 0.05 → "5%", 0.025 → "2.5%", 0.33333 → "33.3%". A probability that four
 // figures write exactly keeps them, so a probability a question asks is

@@ -191,6 +191,35 @@ func TestFormatValueBeside(t *testing.T) {
 // A value of a judgement is written with four figures whether the expert
 // typed it as a proportion or a percentage, never rounded onto a bound
 // the question does not allow, and in plain decimals down to 1e-9.
+// FormatSpread writes an SD as FormatWithin writes the points beside it:
+// four significant figures, plain decimals down to 1e-9 (the values
+// worked by hand, common practice, no source).
+func TestFormatSpread(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{
+		{8.658e-5, "0.00008658"}, // FormatValue writes 8.658e-5
+		{0.0001224, "0.0001224"},
+		{0.12345678, "0.1235"},
+		{42.5, "42.5"},
+		{1.5e-9, "0.0000000015"},
+		{3e-12, "3e-12"},
+		{0, "0"},
+		{math.NaN(), "not available"},
+	} {
+		if got := FormatSpread(c.v); got != c.want {
+			t.Errorf("FormatSpread(%v) = %q, want %q", c.v, got, c.want)
+		}
+	}
+	// Away from the bounds it is FormatWithin's writing on [0, 1].
+	for _, v := range []float64{8.658e-5, 3.3e-7, 0.04089, 0.5} {
+		if got, want := FormatSpread(v), FormatWithin(v, 0, 1, false); got != want {
+			t.Errorf("FormatSpread(%v) = %q, FormatWithin writes %q", v, got, want)
+		}
+	}
+}
+
 func TestFormatWithin(t *testing.T) {
 	for _, c := range []struct {
 		x, lo, hi float64

@@ -320,8 +320,8 @@ type IntervalsView struct {
 	Rows     []IntervalRow
 }
 
-// IntervalRow is one prior's posterior summary; Emphasis draws it
-// heavier (the agreed prior).
+// IntervalRow is one prior's posterior summary, of a proportion on
+// [0, 1]; Emphasis draws it heavier (the agreed prior).
 type IntervalRow struct {
 	Label    string
 	Mean     float64
@@ -434,7 +434,10 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 	}
 	var words []string
 	for _, r := range v.Rows {
-		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, FormatValue(r.Mean), FormatValue(r.Lo), FormatValue(r.Hi)))
+		// The table beside the picture writes these as points of the
+		// proportion (FormatWithin on [0, 1]); so do its words.
+		p := func(x float64) string { return FormatWithin(x, 0, 1, false) }
+		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, p(r.Mean), p(r.Lo), p(r.Hi)))
 	}
 	interval := v.Interval
 	if interval == "" {
