@@ -440,6 +440,23 @@ func (s *screenshots) take(p *person, name string) {
 	}
 }
 
+// part writes a PNG of the first element sel matches on p's page as
+// name.png: a table or a card to look at closely, where the full page is
+// many screens tall.
+func (s *screenshots) part(p *person, sel, name string) {
+	s.t.Helper()
+	ctx, cancel := context.WithTimeout(p.ctx, stepTimeout)
+	defer cancel()
+	png, err := chromedp.Run(ctx, chromedp.Screenshot(chromedp.CSS(sel)))
+	if err != nil {
+		s.t.Fatalf("%s: screenshot %s of %s: %v", p.name, name, sel, err)
+	}
+	path := filepath.Join(s.dir, name+".png")
+	if err := os.WriteFile(path, png, 0o644); err != nil {
+		s.t.Fatalf("write %s: %v", path, err)
+	}
+}
+
 // expertLink matches an expert's private link as the roster prints it.
 var expertLink = regexp.MustCompile(`https?://127\.0\.0\.1:\d+/e/[A-Za-z0-9_-]{43}/`)
 

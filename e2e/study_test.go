@@ -338,3 +338,88 @@ func TestStudyTablesOnAPhone(t *testing.T) {
 		}
 	}
 }
+
+// TestRareEventSpreadsOnAPhone: a rare event's SDs, written in plain
+// decimals as the points beside them ("0.00008658", where "8.658e-5"
+// stood), and the posterior's means and intervals, longer than before,
+// still fit the tables and lines that hold them at 390 px (stacked as
+// labelled lines) and 1366 px: the question's pool table and agreed
+// prior, the study page's prior, posterior and comparison of priors, the
+// report's pool and posterior lines, and the quick priors card. (The
+// pictures' own percentile tables scroll inside their box on a phone, by
+// design: chart.css.)
+func TestRareEventSpreadsOnAPhone(t *testing.T) {
+	site, d := startDemo(t)
+	ctx := context.Background()
+	ws, q := d.w, d.qs[0]
+	for i, e := range d.experts {
+		vs := [][]float64{{0.00003, 0.0001, 0.00025}, {0.00005, 0.00015, 0.0004}, {0.00002, 0.00008, 0.0002}, {0.00004, 0.00012, 0.0003}}[i%4]
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: vs}}
+		if err := site.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20003, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: "About 3 in 20,000 (invented).", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.RecordData(ctx, &workshop.StudyData{QuestionID: q.ID, Successes: 0, Trials: 1000,
+		Source: "Site log (invented)", ObservedOn: "2026-03-31"}); err != nil {
+		t.Fatal(err)
+	}
+	priorSD := chart.FormatSpread(made.Dist.SD())
+	post := elicit.Beta{Alpha: 3, Beta: 21000}
+	postSD := chart.FormatSpread(post.SD())
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	wsURL := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
+	qURL := wsURL + "/q/" + strconv.FormatInt(q.ID, 10)
+	report := "#report-q" + strconv.FormatInt(q.ID, 10)
+	for _, p := range []struct {
+		name, url string
+		shows     []string
+		// parts hold the means and SDs: each is looked at (a picture of
+		// it) and checked to fit, its table cells and lines of words.
+		parts []string
+	}{
+		{"panel", qURL, []string{"SD " + priorSD}, []string{"#pool-summary", ".agreed"}},
+		{"study", qURL + "/study?trials=100", []string{"SD " + priorSD, postSD}, []string{"#prior", "#update table", "#compare"}},
+		// The report's question holds other tables (the data's, wide on a
+		// phone for its own reasons); its lines of words are checked.
+		{"report", wsURL + "/report", []string{"SD " + postSD}, []string{report}},
+		{"quick-priors", wsURL + "/quick-priors?question=" + strconv.FormatInt(q.ID, 10) + "&construction=equivalent_sample&c_successes=3&c_trials=20003",
+			[]string{priorSD}, []string{"#results"}},
+	} {
+		for _, w := range []int64{390, 1366} {
+			fac.viewport(w, 900, w < 600)
+			if st := fac.open(p.url); st != http.StatusOK {
+				t.Fatalf("%s at %d px: %d", p.name, w, st)
+			}
+			fac.sees(fmt.Sprintf("%s at %d px", p.name, w), p.shows...)
+			fits(t, fac, "the rare event's "+p.name, w)
+			for i, part := range p.parts {
+				check := part + " p"
+				if part != report {
+					check += ", " + part + " td, " + part + " th, " + part + ":is(td, th)"
+				}
+				if cut := eval[[]string](fac, "text past the screen", `[...document.querySelectorAll(`+strconv.Quote(check)+`)].filter(c => !c.closest(".chart-table") && c.getClientRects().length && c.getBoundingClientRect().right > `+strconv.FormatInt(w, 10)+` + 0.5).map(c => c.innerText.trim())`); len(cut) > 0 {
+					t.Errorf("%s at %d px: %s runs past the screen: %q", p.name, w, part, cut)
+				}
+				if part != report {
+					tables := strconv.Quote(part + " .table, " + part + " .table-scroll, " + part + ".table")
+					if wide := eval[[]string](fac, "tables scrolling sideways", `[...document.querySelectorAll(`+tables+`)].filter(b => b.getClientRects().length && b.scrollWidth > b.clientWidth + 1).map(b => b.className + " " + b.scrollWidth + " > " + b.clientWidth)`); len(wide) > 0 {
+						t.Errorf("%s at %d px: a table scrolls sideways: %q", p.name, w, wide)
+					}
+				}
+				shots.part(fac, part, fmt.Sprintf("rare-%s-%d-%d", p.name, i+1, w))
+			}
+		}
+	}
+}
