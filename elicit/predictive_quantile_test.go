@@ -39,9 +39,19 @@ func TestPredictiveQuantileAtTiesAgainstSciPy(t *testing.T) {
 	}
 }
 
-// shapeWritten writes α or β as a page might: four significant
-// figures, more to stay on its own side of 1.
-func shapeWritten(x float64) string { return strconv.FormatFloat(x, 'g', ShapeDigits(x, 4), 64) }
+// shapeWritten writes α or β as the pages do (web/chart.FormatShape, which
+// elicit may not import; this mirrors its rule): four significant
+// figures, more to stay on its own side of 1 (ShapeDigits), as the
+// shortest plain decimal of the rounded value, so 19997.4 is "20000",
+// not %g's "2e+04". The pages write an exponent only below 1e-4 and from
+// 1e7 up, which no shape in these tests reaches.
+func shapeWritten(x float64) string {
+	r, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', ShapeDigits(x, 4)-1, 64), 64)
+	if err != nil {
+		panic(err)
+	}
+	return strconv.FormatFloat(r, 'f', -1, 64)
+}
 
 // The uniform prior, the commonest quick prior, is worth 2 observed
 // trials: 1 success and 1 failure, in the singular. A shape just short
@@ -64,12 +74,21 @@ func TestWorthWordsSingular(t *testing.T) {
 
 // The successes and failures are the Beta's α and β as the caller writes
 // them beside the line, not counts of their own figures: Beta(3, 19997.4)
-// written to four figures is Beta(3, 2e+04) here, and its worth splits
-// into 3 and 2e+04, not 19997.
+// written to four figures, as the pages write it, is Beta(3, 20000), and
+// its worth splits into 3 and 20000 failures, not the whole count 19997.
 func TestWorthSplitsAsTheShapesAreWritten(t *testing.T) {
+	if s := shapeWritten(19997.4); s != "20000" {
+		t.Fatalf("the pages write β = 19997.4 as 20000, the test's writer as %s", s)
+	}
 	got := Worth(Beta{3, 19997.4}).Words(shapeWritten)
-	if want := "worth about 20000 observed trials (3 successes and 2e+04 failures)"; got != want {
+	if want := "worth about 20000 observed trials (3 successes and 20000 failures)"; got != want {
 		t.Errorf("%q, want %q", got, want)
+	}
+	// The split is the caller's writing, not a count of its own: a writer
+	// that keeps every figure gives β itself.
+	every := func(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+	if got := Worth(Beta{3, 19997.4}).Words(every); !strings.Contains(got, "(3 successes and 19997.4 failures)") {
+		t.Errorf("with every figure: %q", got)
 	}
 }
 
