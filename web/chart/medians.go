@@ -134,10 +134,6 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 // medianDrawingFor lays the strip out over [lo, hi] in lay's width.
 func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo, hi float64) medianDrawing {
 	d := medianDrawing{Layout: lay.Name}
-	ts := ticks(lo, hi, lay.XTicks-1)
-	if len(ts) >= 2 {
-		lo, hi = math.Min(lo, ts[0].Value), math.Max(hi, ts[len(ts)-1].Value)
-	}
 	// Dots that would overlap are stacked in rows, lowest median first.
 	order := make([]int, len(v.Medians))
 	for i := range order {
@@ -170,9 +166,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	if lay.Name == wideLayout.Name {
 		px = medianTickPx
 	}
-	for _, t := range ts {
-		d.Ticks = append(d.Ticks, xTick(f.px(t.Value), t.Label, t.Label, px, w))
-	}
+	d.Ticks = xTicks(lo, hi, lay.XTicks-1, f.px, nil, px, w)
 	boxTop := stripTop - 14
 	d.BoxX, d.BoxW = coord(f.px(sp.LowerQuartile)), coord(math.Max(2, f.px(sp.UpperQuartile)-f.px(sp.LowerQuartile)))
 	d.BoxY, d.BoxH = coord(boxTop), coord(axisY-boxTop)

@@ -64,9 +64,7 @@ func newPlot(id string, lay plotLayout, x0, x1, y0, y1 float64, xTitle, yTitle s
 	}
 	g.Axes.YTitleX, g.Axes.YTitleY = coord(tx), coord(ty)
 	g.Axes.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
-	for _, t := range ticks(x0, x1, lay.XTicks) {
-		g.XTicks = append(g.XTicks, xTick(f.px(t.Value), t.Label, t.Label, tickLabelPx(lay.Name), lay.width()))
-	}
+	g.XTicks = xTicks(x0, x1, lay.XTicks, f.px, nil, tickLabelPx(lay.Name), lay.width())
 	g.XLabelY = coord(f.bottom() + 18)
 	g.XTitleX, g.XTitleY = coord(f.Left+f.Width/2), coord(f.bottom()+42)
 	return g

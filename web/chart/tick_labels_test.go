@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // drawnLabelWidth estimates a tick label's drawn width at size: 0.58 of the
@@ -18,10 +20,12 @@ func drawnLabelWidth(label string, size float64) float64 {
 	return 0.58 * size * float64(len([]rune(strings.TrimSpace(label))))
 }
 
-// checkTickLabels fails when a tick label of the SVG fragment svg,
-// drawn size high, leaves [0, width].
+// checkTickLabels fails when an x tick label of the SVG fragment svg,
+// drawn size high, leaves [0, width], or comes too close to its
+// neighbour (checkLabelsApart).
 func checkTickLabels(t *testing.T, where, svg string, size, width float64) {
 	t.Helper()
+	var labels []tickGeom
 	for _, n := range find(parse(t, svg), "text", "tick-label") {
 		if n.hasClass("tick-y") {
 			continue
@@ -33,16 +37,72 @@ func checkTickLabels(t *testing.T, where, svg string, size, width float64) {
 		if lo, hi := x-tw/2, x+tw/2; lo < -1 || hi > width+1 {
 			t.Errorf("%s: tick label %q at %v, about %.0f wide, leaves the picture's 0 to %v", where, n.Text, x, tw, width)
 		}
+		labels = append(labels, tickGeom{LabelX: n.Attr["x"], Label: n.Text})
+	}
+	checkLabelsApart(t, where, labels, size)
+}
+
+// checkTickGeoms is checkTickLabels for ticks as laid out, before they
+// are drawn.
+func checkTickGeoms(t *testing.T, where string, ts []tickGeom, size, width float64) {
+	t.Helper()
+	for _, tk := range ts {
+		if tk.Label == "" {
+			continue
+		}
+		x, _ := strconv.ParseFloat(tk.LabelX, 64)
+		tw := drawnLabelWidth(tk.Label, size)
+		if lo, hi := x-tw/2, x+tw/2; lo < -1 || hi > width+1 {
+			t.Errorf("%s: tick label %q at %v leaves the picture's 0 to %v", where, tk.Label, x, width)
+		}
+	}
+	checkLabelsApart(t, where, ts, size)
+}
+
+// labelGapEm is the least clear room the tests ask between two
+// neighbouring x tick labels: about a space (DejaVu Sans's is 0.318 em,
+// from memory).
+const labelGapEm = 0.3
+
+// checkLabelsApart fails when two neighbouring x tick labels of ts
+// drawn size high, each as wide as tickLabelEm estimates, leave less
+// than labelGapEm between them, or when no label is written at all.
+func checkLabelsApart(t *testing.T, where string, ts []tickGeom, size float64) {
+	t.Helper()
+	var prev *tickGeom
+	labelled := 0
+	for i := range ts {
+		tk := &ts[i]
+		if tk.Label == "" {
+			continue
+		}
+		labelled++
+		if prev != nil {
+			x, _ := strconv.ParseFloat(prev.LabelX, 64)
+			y, _ := strconv.ParseFloat(tk.LabelX, 64)
+			room := (y - tickLabelEm(tk.Label)*size/2) - (x + tickLabelEm(prev.Label)*size/2)
+			if room < labelGapEm*size {
+				t.Errorf("%s: tick labels %q at %v and %q at %v leave %.1f units between them, under %.1f", where, prev.Label, x, tk.Label, y, room, labelGapEm*size)
+			}
+		}
+		prev = tk
+	}
+	if labelled == 0 && len(ts) > 0 {
+		t.Errorf("%s: %d ticks and not one labelled", where, len(ts))
 	}
 }
 
 // TestTickLabelsStayInsideThePicture: no x tick label leaves its
-// picture's box, in either layout, for any window. A rare event's prior,
+// picture's box, in either layout, for any window, and no two
+// neighbouring labels overlap. A rare event's prior,
 // Beta(3, 19997.4) on 0 to 1, drew its last label "0.0006" centred on
 // the compact plot's right edge, half of it beyond the 18-unit margin:
-// a phone cut it. The windows run from a billionth of the bounds' width
-// to all of it, on scales from 1e-7 to 1e7, in plain numbers and, on 0
-// to 1, in percentages; the study's plots are held to the same.
+// a phone cut it. A narrow window far from zero, [0.40271609,
+// 0.40271885], wrote "0.4027165" and "0.402717" 50 units apart on the
+// phone, each about 76 wide. The windows run from a billionth of the
+// bounds' width to all of it, on scales from 1e-7 to 1e7, in plain
+// numbers and, on 0 to 1, in percentages; the study's plots and the
+// median strip are held to the same.
 func TestTickLabelsStayInsideThePicture(t *testing.T) {
 	rare := PanelView{ID: "rare", Quantity: "first-year failure proportion", Units: "proportion of units", Lower: 0, Upper: 1,
 		Curves: []Curve{{Label: "Equivalent prior sample", Role: RoleAgreed, Dist: sbeta(3, 19997.4, 0, 1)}}}
@@ -57,6 +117,15 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 		}
 	}
 
+	type window struct {
+		lower, upper, x0, x1 float64
+		percent              bool
+	}
+	windows := []window{
+		{0, 1, 0.40271609, 0.40271885, false},
+		{0, 1, 0.40271609, 0.40271885, true},
+		{1000, 2000, 1234.5671, 1234.5679, false},
+	}
 	r := rand.New(rand.NewPCG(3, 19997))
 	for i := range 3000 {
 		scale := math.Pow(10, -7+14*r.Float64())
@@ -76,7 +145,11 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 		if !(x1 > x0) {
 			continue
 		}
-		percent := i%4 == 0 && r.IntN(2) == 0
+		windows = append(windows, window{lower, upper, x0, x1, i%4 == 0 && r.IntN(2) == 0})
+	}
+	for _, w := range windows {
+		lower, upper, x0, x1, percent := w.lower, w.upper, w.x0, w.x1, w.percent
+		over := " over [" + strconv.FormatFloat(x0, 'g', -1, 64) + ", " + strconv.FormatFloat(x1, 'g', -1, 64) + "]"
 		for _, lay := range layouts {
 			k := frameKey{layout: lay.Name, quantity: "q", lower: lower, upper: upper, x0: x0, x1: x1, top: 1, percent: percent}
 			dens := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.DensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
@@ -86,7 +159,7 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 			if err := twinAxesSVG(g).Render(context.Background(), &b); err != nil {
 				t.Fatal(err)
 			}
-			where := lay.Name + " twin over [" + strconv.FormatFloat(x0, 'g', -1, 64) + ", " + strconv.FormatFloat(x1, 'g', -1, 64) + "]"
+			where := lay.Name + " twin" + over
 			if percent {
 				where += " in percent"
 			}
@@ -95,13 +168,24 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 		}
 		for _, lay := range plotLayouts {
 			g := newPlot("p", lay, x0, x1, 0, 1, "x", "y", nil)
-			checkTicksInWindow(t, lay.Name+" study plot", g.XTicks, x0, x1, g.f)
-			for _, tk := range g.XTicks {
-				x, _ := strconv.ParseFloat(tk.LabelX, 64)
-				tw := drawnLabelWidth(tk.Label, tickLabelPx(lay.Name))
-				if lo, hi := x-tw/2, x+tw/2; lo < -1 || hi > lay.width()+1 {
-					t.Errorf("%s study plot over [%g, %g]: tick label %q at %v leaves the picture's 0 to %v", lay.Name, x0, x1, tk.Label, x, lay.width())
+			where := lay.Name + " study plot" + over
+			checkTicksInWindow(t, where, g.XTicks, x0, x1, g.f)
+			checkTickGeoms(t, where, g.XTicks, tickLabelPx(lay.Name), lay.width())
+		}
+		if !percent {
+			v := MedianStripView{ID: "m", Quantity: "q", Lower: lower, Upper: upper,
+				Labels: []string{"Expert A", "Expert B"}, Medians: []float64{x0, x1}}
+			sp, err := elicit.SpreadOfMedians(v.Medians)
+			if err != nil {
+				t.Fatal(err)
+			}
+			for _, lay := range layouts {
+				px := tickLabelPx(lay.Name)
+				if lay.Name == wideLayout.Name {
+					px = medianTickPx
 				}
+				d := medianDrawingFor(lay, v, sp, x0, x1)
+				checkTickGeoms(t, lay.Name+" median strip"+over, d.Ticks, px, lay.width())
 			}
 		}
 		if t.Failed() {
@@ -126,6 +210,50 @@ func checkTicksInWindow(t *testing.T, where string, ts []tickGeom, x0, x1 float6
 		}
 		if math.Abs(f.px(v)-pos) > 0.01 {
 			t.Errorf("%s over [%g, %g]: the tick labelled %q stands at %v, where %g is %v", where, x0, x1, tk.Value, pos, v, f.px(v))
+		}
+	}
+}
+
+// TestXTicksTakeACoarserStep: where the labels of the nice step would
+// collide, xTicks takes the next coarser step of the same sequence, and
+// where even two ticks' labels collide it writes fewer labels; a window
+// whose labels fit keeps the ticks it always had.
+func TestXTicksTakeACoarserStep(t *testing.T) {
+	lay := compactLayout
+	px := tickLabelPx(lay.Name)
+	at := func(x0, x1 float64) func(float64) float64 {
+		return frame{Left: lay.Left, Width: lay.PlotW, X0: x0, X1: x1}.px
+	}
+	labels := func(gs []tickGeom) []string {
+		var out []string
+		for _, g := range gs {
+			out = append(out, g.Value+"="+g.Label)
+		}
+		return out
+	}
+	cases := []struct {
+		x0, x1 float64
+		want   []string
+	}{
+		// The nice step for four ticks is 5e-7: five labels of seven
+		// decimals, 50 units apart and about 76 wide. The next, 1e-6,
+		// leaves two.
+		{0.40271609, 0.40271885, []string{"0.402717=0.402717", "0.402718=0.402718"}},
+		// The nice step, 2e-4, draws four labels about 76 wide 70 units
+		// apart; the next, 5e-4, has one tick in the window. So the four
+		// ticks stay and every other one is labelled.
+		{1234.5671, 1234.5679, []string{"1234.5672=1234.5672", "1234.5674=", "1234.5676=1234.5676", "1234.5678="}},
+		// The coarsest step with two ticks, 5e-12, sets them 108 units
+		// apart with labels about 120 wide: the second keeps its gridline
+		// without a label.
+		{1.9915661239373412e-06, 1.9915789545674797e-06, []string{"0.000001991570=0.000001991570", "0.000001991575="}},
+		// Short labels: the ticks as the nice step draws them.
+		{0, 1, []string{"0=0", "0.2=0.2", "0.4=0.4", "0.6=0.6", "0.8=0.8", "1.0=1.0"}},
+	}
+	for _, c := range cases {
+		got := labels(xTicks(c.x0, c.x1, lay.XTicks, at(c.x0, c.x1), nil, px, lay.width()))
+		if strings.Join(got, " ") != strings.Join(c.want, " ") {
+			t.Errorf("compact ticks over [%v, %v]: %q, want %q", c.x0, c.x1, got, c.want)
 		}
 	}
 }

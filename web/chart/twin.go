@@ -66,8 +66,8 @@ const (
 // tickGeom is one tick at a pixel position.
 type tickGeom struct {
 	Pos    string // pixel x (x ticks) or y (y ticks)
-	LabelX string // an x tick's label's centre, kept inside the picture (xTick)
-	Label  string
+	LabelX string // an x tick's label's centre, kept inside the picture (tickLabelCentre)
+	Label  string // "" for an x tick drawn without a label (xTicks)
 	Value  string // the data value, for tests and assistive tools
 }
 
@@ -369,13 +369,11 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	x0, x1, top, lower, upper := k.x0, k.x1, k.top, k.lower, k.upper
 	// The notes write the window's ends as the fit's values are written.
 	xv := func(x float64) string { return FormatWithin(x, lower, upper, k.percent) }
-	for _, t := range ticks(x0, x1, lay.XTicks) {
-		label := t.Label
-		if k.percent {
-			label = FormatPercent(t.Value)
-		}
-		g.XTicks = append(g.XTicks, xTick(dens.px(t.Value), label, t.Label, tickLabelPx(lay.Name), lay.width()))
+	var percent func(tick) string
+	if k.percent {
+		percent = func(t tick) string { return FormatPercent(t.Value) }
 	}
+	g.XTicks = xTicks(x0, x1, lay.XTicks, dens.px, percent, tickLabelPx(lay.Name), lay.width())
 	g.Density = yAxes(lay, dens, ticks(0, top, densityTicksN), "density", "chart-density")
 	var pt []tick
 	for _, p := range []float64{0, 0.25, 0.5, 0.75, 1} {
