@@ -179,9 +179,7 @@ func newSteadyDrawing(lay steadyLayout, t SteadinessTarget, x0, x1 float64) stea
 	clamp := func(x float64) float64 { return f.px(math.Max(x0, math.Min(x1, x))) }
 	d.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(f.bottom()+steadyBelow)
 	d.Axis = axesGeom{X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height), Right: coord(f.right()), Bottom: coord(f.bottom()), Class: "plot-steadiness"}
-	for _, tk := range ticks(x0, x1, 4) {
-		d.XTicks = append(d.XTicks, tickGeom{Pos: coord(f.px(tk.Value)), Label: tk.Label, Value: fmt.Sprint(tk.Value)})
-	}
+	d.XTicks = xTicks(x0, x1, 4, f.px, nil, tickLabelPx(lay.Name), lay.width())
 	d.XLabelY = coord(f.bottom() + 20)
 	d.BandX, d.BandW = coord(clamp(t.Full[0])), coord(clamp(t.Full[2])-clamp(t.Full[0]))
 	d.BandTop, d.BandH = coord(f.Top), coord(f.Height)

@@ -101,8 +101,10 @@ func checkLabelsApart(t *testing.T, where string, ts []tickGeom, size float64) {
 // 0.40271885], wrote "0.4027165" and "0.402717" 50 units apart on the
 // phone, each about 76 wide. The windows run from a billionth of the
 // bounds' width to all of it, on scales from 1e-7 to 1e7, in plain
-// numbers and, on 0 to 1, in percentages; the study's plots and the
-// median strip are held to the same.
+// numbers and, on 0 to 1, in percentages; the study's plots, the median
+// strip and the steadiness picture are held to the same (the steadiness
+// picture centred every label on its tick, and its compact plot starts
+// 10 units from the picture's edge).
 func TestTickLabelsStayInsideThePicture(t *testing.T) {
 	rare := PanelView{ID: "rare", Quantity: "first-year failure proportion", Units: "proportion of units", Lower: 0, Upper: 1,
 		Curves: []Curve{{Label: "Equivalent prior sample", Role: RoleAgreed, Dist: sbeta(3, 19997.4, 0, 1)}}}
@@ -172,6 +174,17 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 			checkTicksInWindow(t, where, g.XTicks, x0, x1, g.f)
 			checkTickGeoms(t, where, g.XTicks, tickLabelPx(lay.Name), lay.width())
 		}
+		for _, lay := range steadyLayouts {
+			target := SteadinessTarget{Title: "q", Lower: lower, Upper: upper, Full: [3]float64{x0, (x0 + x1) / 2, x1}}
+			d := newSteadyDrawing(lay, target, x0, x1)
+			var b bytes.Buffer
+			if err := steadyDrawingSVG(steadyPanel{ID: "s", Title: "q"}, d).Render(context.Background(), &b); err != nil {
+				t.Fatal(err)
+			}
+			where := lay.Name + " steadiness" + over
+			checkTickLabels(t, where, b.String(), tickLabelPx(lay.Name), lay.width())
+			checkTicksInWindow(t, where, d.XTicks, x0, x1, frame{Left: lay.Left, Width: lay.PlotW, X0: x0, X1: x1})
+		}
 		if !percent {
 			v := MedianStripView{ID: "m", Quantity: "q", Lower: lower, Upper: upper,
 				Labels: []string{"Expert A", "Expert B"}, Medians: []float64{x0, x1}}
@@ -210,6 +223,29 @@ func checkTicksInWindow(t *testing.T, where string, ts []tickGeom, x0, x1 float6
 		}
 		if math.Abs(f.px(v)-pos) > 0.01 {
 			t.Errorf("%s over [%g, %g]: the tick labelled %q stands at %v, where %g is %v", where, x0, x1, tk.Value, pos, v, f.px(v))
+		}
+	}
+}
+
+// TestSteadinessTickLabelsStayInside: the steadiness picture's compact
+// plot runs from 10 units to 350 of 360, and it centred each label on its
+// tick, so a question on 1000 to 2000 hours drew "1000" and "2000",
+// each about 36 units wide, centred on the plot's ends: some 8 units of
+// each lay beyond the picture's edge, and a phone cut both.
+func TestSteadinessTickLabelsStayInside(t *testing.T) {
+	v := SteadinessView{Targets: []SteadinessTarget{{
+		Title: "Q4 invented time to first repair", Lower: 1000, Upper: 2000, Full: [3]float64{1000, 1400, 2000},
+		Rows: []SteadinessRow{{Label: "without Q2", Pool: &[3]float64{1000, 1450, 2000}, Shift: 0.05}},
+	}}}
+	for _, lay := range steadyLayouts {
+		html := renderLayout(t, Steadiness(v), lay.Name)
+		pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay.Name + `".*?</svg>`).FindString(html)
+		if pic == "" {
+			t.Fatalf("no %s drawing", lay.Name)
+		}
+		checkTickLabels(t, "steadiness on 1000 to 2000, "+lay.Name, pic, tickLabelPx(lay.Name), lay.width())
+		if !strings.Contains(pic, ">1000</text>") || !strings.Contains(pic, ">2000</text>") {
+			t.Errorf("%s: the ends of the axis are not labelled", lay.Name)
 		}
 	}
 }

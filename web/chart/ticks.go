@@ -149,8 +149,8 @@ const tickLabelGapEm = 0.4
 // never fewer than two ticks. If the coarsest step with two ticks still
 // crowds them, its ticks keep their gridlines and a label is written
 // only where it clears the last one written, from the left. The curve
-// pictures, the study's plots and the median strip take their x ticks
-// from here.
+// pictures, the study's plots, the median strip and the steadiness
+// picture take their x ticks from here.
 func xTicks(lo, hi float64, n int, px func(float64) float64, label func(tick) string, fontPx, width float64) []tickGeom {
 	if !(hi > lo) || math.IsInf(lo, 0) || math.IsInf(hi, 0) {
 		return nil
