@@ -396,7 +396,7 @@ func TestPercentileLabelsDoNotOverlap(t *testing.T) {
 			rows := map[string][]span{}
 			for _, k := range dr.Marks {
 				x, _ := strconv.ParseFloat(k.LabelX, 64)
-				w := labelWidth(k.Label)
+				w := labelEm(k.Label, true) * percentileLabelPx(dr.Twin.Layout.Name)
 				var sp span
 				switch k.Anchor {
 				case "start":

@@ -139,7 +139,7 @@ func TestTruthLabelStaysInsideTheStrip(t *testing.T) {
 			w, _ := strconv.ParseFloat(strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])[2], 64)
 			label := find(ns, "text", "truth-label")[0]
 			x, _ := strconv.ParseFloat(label.Attr["x"], 64)
-			width := labelWidth(label.Text) * 17 / 13
+			width := labelEm(label.Text, true) * truthLabelPx
 			left := map[string]float64{"start": x, "middle": x - width/2, "end": x - width}[label.Attr["text-anchor"]]
 			if left < 0 || left+width > w {
 				t.Errorf("truth %v, %s: label %q from %.1f to %.1f in a strip %.0f wide", truth, lay, label.Text, left, left+width, w)

@@ -231,7 +231,7 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 		// same figures: a label of 0.198 beside a table's 0.1979 read as
 		// two answers.
 		text := names[i] + " " + v.value(x)
-		w := labelWidth(text)
+		w := labelEm(text, true) * percentileLabelPx(g.Layout.Name)
 		places := []label{{anchor: "middle", left: px - w/2}, {anchor: "start", left: px - 4}, {anchor: "end", left: px + 4 - w}}
 		inside := func(l label) bool { return l.left >= 2 && l.left+w <= width-2 }
 		row, at, found := 0, label{}, false
@@ -317,6 +317,11 @@ func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	return strings.TrimSpace(b.String())
 }
 
-// labelWidth estimates the drawn width of a 13px bold label: about 7.5px
-// a character in the system sans-serif fonts.
-func labelWidth(s string) float64 { return 7.5 * float64(len([]rune(s))) }
+// percentileLabelPx is the fit's percentile labels' font size in a
+// layout, as static/chart.css sets it (weight 600, so bold: labelEm).
+func percentileLabelPx(layout string) float64 {
+	if layout == compactLayout.Name {
+		return 13
+	}
+	return 12
+}

@@ -56,6 +56,11 @@ type medianStripModel struct {
 // a box from them reads as a spread it is not.
 const minBoxMedians = 5
 
+// truthLabelPx is the font size the true value's label is kept inside
+// the strip at: a unit above the largest the stylesheet sets, 16px bold
+// on the wide strip (.chart-medians .chart-wide .truth-label).
+const truthLabelPx = 17
+
 // Layout of the median strip, in viewBox units; its width is the
 // layout's.
 const (
@@ -180,11 +185,10 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		tx := f.px(*v.Truth)
 		label := "true value " + FormatValue(*v.Truth)
 		// Keep the label inside the picture at the largest size a
-		// stylesheet gives it (16px on the wide strip, and the projector's
-		// view scales the whole picture, not the label alone): labelWidth
-		// measures 13px, so this allows 17px. Near an edge the label is
-		// anchored to it.
-		half := labelWidth(label) * 17 / 13 / 2
+		// stylesheet gives it (16px bold on the wide strip, and the
+		// projector's view scales the whole picture, not the label alone):
+		// this allows 17px. Near an edge the label is anchored to it.
+		half := labelEm(label, true) * truthLabelPx / 2
 		lx, anchor := tx, "middle"
 		switch {
 		case tx-half < 2:

@@ -13,11 +13,13 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// drawnLabelWidth estimates a tick label's drawn width at size: 0.58 of the
-// size a character, as textWidth does (common practice for layout
-// estimates, no source); the browser tests measure the real fonts.
+// drawnLabelWidth estimates a tick label's drawn width at size from
+// DejaVu Sans's own advance widths (labelEm; the widest font the pictures
+// meet); the browser tests measure the real fonts. An even 0.58 em a
+// character, as textWidth counts, takes "-30.0" for 2.9 em; DejaVu Sans
+// draws it 2.6 em wide.
 func drawnLabelWidth(label string, size float64) float64 {
-	return 0.58 * size * float64(len([]rune(strings.TrimSpace(label))))
+	return labelEm(strings.TrimSpace(label), false) * size
 }
 
 // checkTickLabels fails when an x tick label of the SVG fragment svg,
@@ -61,11 +63,11 @@ func checkTickGeoms(t *testing.T, where string, ts []tickGeom, size, width float
 
 // labelGapEm is the least clear room the tests ask between two
 // neighbouring x tick labels: about a space (DejaVu Sans's is 0.318 em,
-// from memory).
+// testdata/fonts/dejavu_advance_widths.txt).
 const labelGapEm = 0.3
 
 // checkLabelsApart fails when two neighbouring x tick labels of ts
-// drawn size high, each as wide as tickLabelEm estimates, leave less
+// drawn size high, each as wide as labelEm estimates, leave less
 // than labelGapEm between them, or when no label is written at all.
 func checkLabelsApart(t *testing.T, where string, ts []tickGeom, size float64) {
 	t.Helper()
@@ -80,7 +82,7 @@ func checkLabelsApart(t *testing.T, where string, ts []tickGeom, size float64) {
 		if prev != nil {
 			x, _ := strconv.ParseFloat(prev.LabelX, 64)
 			y, _ := strconv.ParseFloat(tk.LabelX, 64)
-			room := (y - tickLabelEm(tk.Label)*size/2) - (x + tickLabelEm(prev.Label)*size/2)
+			room := (y - labelEm(tk.Label, false)*size/2) - (x + labelEm(prev.Label, false)*size/2)
 			if room < labelGapEm*size {
 				t.Errorf("%s: tick labels %q at %v and %q at %v leave %.1f units between them, under %.1f", where, prev.Label, x, tk.Label, y, room, labelGapEm*size)
 			}

@@ -96,29 +96,6 @@ func ticksOf(lo, hi, step float64, most int) []tick {
 	return ts
 }
 
-// tickLabelEm is a tick label's advance width in ems, a character at a
-// time, at about the widest the pictures' fonts draw it (DejaVu Sans,
-// Debian's default sans-serif: digits 0.636 em, the point 0.318 em, the
-// percent sign 0.95 em); narrower fonts leave a little room to spare.
-func tickLabelEm(label string) float64 {
-	w := 0.0
-	for _, r := range label {
-		switch {
-		case r >= '0' && r <= '9':
-			w += 0.64
-		case r == '.' || r == ',' || r == ' ':
-			w += 0.33
-		case r == '-':
-			w += 0.37
-		case r == '%':
-			w += 0.95
-		default:
-			w += 0.85
-		}
-	}
-	return w
-}
-
 // tickLabelPx is the x tick labels' font size in a layout, as
 // static/chart.css sets it (the median strip's wide drawing sets its
 // own, medianTickPx).
@@ -142,15 +119,15 @@ const tickLabelGapEm = 0.4
 // n of them on a nice step (niceStep), each at column px(value) of a
 // picture width units wide, written label(t) (nil: the tick's own label)
 // in a font fontPx high, the label placed by tickLabelCentre. Where two
-// neighbouring labels would come closer than tickLabelGapEm (a narrow
-// window far from zero: "0.4027165", "0.4027170", … 50 units apart on a
-// phone, each about 76 wide), it takes the next coarser step of the same
-// sequence (1, 2, 5 × 10^k), so fewer ticks with shorter labels, but
-// never fewer than two ticks. If the coarsest step with two ticks still
-// crowds them, its ticks keep their gridlines and a label is written
-// only where it clears the last one written, from the left. The curve
-// pictures, the study's plots, the median strip and the steadiness
-// picture take their x ticks from here.
+// neighbouring labels (as wide as labelEm says) would come closer than
+// tickLabelGapEm (a narrow window far from zero: "0.4027165",
+// "0.4027170", … 50 units apart on a phone, each about 76 wide), it takes
+// the next coarser step of the same sequence (1, 2, 5 × 10^k), so fewer
+// ticks with shorter labels, but never fewer than two ticks. If the
+// coarsest step with two ticks still crowds them, its ticks keep their
+// gridlines and a label is written only where it clears the last one
+// written, from the left. The curve pictures, the study's plots, the
+// median strip and the steadiness picture take their x ticks from here.
 func xTicks(lo, hi float64, n int, px func(float64) float64, label func(tick) string, fontPx, width float64) []tickGeom {
 	if !(hi > lo) || math.IsInf(lo, 0) || math.IsInf(hi, 0) {
 		return nil
@@ -203,12 +180,12 @@ func tickLabelsApart(gs []tickGeom, centres []float64, fontPx float64) bool {
 // tickLabelsClear reports whether label a centred at x and label b
 // centred at y further right leave tickLabelGapEm between them.
 func tickLabelsClear(a string, x float64, b string, y float64, fontPx float64) bool {
-	return y-x >= (tickLabelEm(a)+tickLabelEm(b))*fontPx/2+tickLabelGapEm*fontPx
+	return y-x >= (labelEm(a, false)+labelEm(b, false))*fontPx/2+tickLabelGapEm*fontPx
 }
 
 // tickLabelHalf is half a tick label's width at fontPx, and a unit.
 func tickLabelHalf(label string, fontPx float64) float64 {
-	return tickLabelEm(label)*fontPx/2 + 1
+	return labelEm(label, false)*fontPx/2 + 1
 }
 
 // tickLabelCentre is where a label fontPx high for a tick at column pos
