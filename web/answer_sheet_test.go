@@ -694,3 +694,53 @@ func TestPanelAndReportWriteATailMissAsTyped(t *testing.T) {
 		}
 	}
 }
+
+// A fit that meets its stated points exactly, as a Beta meets any two,
+// misses them by rounding (1.8e-15): the panel's table of fits and the
+// report's final judgements say its largest probability gap is less than
+// 0.000001, not "1.832e-15", a difference to be weighed at a projector.
+// A gap above the floor keeps its four figures in plain decimals.
+func TestAnExactFitsGapReadsAsNone(t *testing.T) {
+	for gap, want := range map[float64]string{1.832e-15: "less than 0.000001", 0: "less than 0.000001", 0.00001234: "0.00001234",
+		0.004361: "0.004361", 0.05000004: "0.05000004", 0.3: "0.3"} {
+		if got := probGap(gap); got != want {
+			t.Errorf("probGap(%v) = %q, want %q", gap, got, want)
+		}
+	}
+	if got := singleBetaReportGap(3e-9); got != "less than 0.000001 from the pool's CDF" {
+		t.Errorf("singleBetaReportGap(3e-9) = %q", got)
+	}
+	g := newSheetRig(t)
+	ctx := context.Background()
+	q := workshop.Question{WorkshopID: g.ws.ID, Wording: "Share of tanks needing a new gasket?", Quantity: "gasket share", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: []float64{0.5, 0.9}}
+	if err := g.h.db.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	for i, vs := range [][]float64{{0.04, 0.12}, {0.1, 0.2}} {
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: g.experts[i].ID, Answer: workshop.Answer{Values: vs}}
+		if err := g.h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if f.MaxProbError >= gapFloor {
+			t.Fatalf("%v fits with a gap of %g, not exactly", vs, f.MaxProbError)
+		}
+	}
+	_, panel := g.h.get(questionPath(g.ws.ID, q.ID))
+	_, report := g.h.get(workshopPath(g.ws.ID) + "/report")
+	for _, c := range []struct{ page, body, want string }{
+		{"panel", panel, `<td class="num" data-label="Largest probability gap">less than 0.000001</td>`},
+		{"report", reportSection(t, report, q.ID), "<td>less than 0.000001</td>"},
+	} {
+		if n := strings.Count(c.body, c.want); n != 2 {
+			t.Errorf("%s: %q %d times, want twice (each expert's exact fit)", c.page, c.want, n)
+		}
+		if m := regexp.MustCompile(`>[0-9.]+e-[0-9]+<`).FindString(c.body); m != "" {
+			t.Errorf("%s: a gap written with an exponent: %s", c.page, m)
+		}
+	}
+}

@@ -64,6 +64,35 @@ func (st questionState) poolSeen() string {
 	return b.String()
 }
 
+// gapFloor is the least largest probability gap written as a number: a
+// Beta that meets the stated points exactly (two of them, say) misses
+// them by rounding, 1.8e-15, which a number would write as a difference
+// to be weighed.
+const gapFloor = 1e-6
+
+// probGap writes a largest probability gap |F(x) − p| (a fit's from its
+// stated points, an agreed Beta's from its consensus judgement, a single
+// Beta's from its pool's CDF) as the pages write probabilities beside
+// it: four figures in plain decimals, as many more as keep it on its own
+// side of the poor-fit limit (elicit.PoorFitThreshold), and "less than
+// 0.000001" below gapFloor. It read "1.832e-15" for an exact fit, on
+// the panel at a projector.
+func probGap(gap float64) string {
+	if gap < gapFloor {
+		return "less than " + chart.FormatSpread(gapFloor)
+	}
+	// FormatWithin on [0, the limit] keeps the gap on its side of both.
+	return chart.FormatWithin(gap, 0, elicit.PoorFitThreshold, false)
+}
+
+// gapAtMost is probGap after "at most", where the gap is a bound.
+func gapAtMost(gap float64) string {
+	if gap < gapFloor {
+		return probGap(gap)
+	}
+	return "at most " + probGap(gap)
+}
+
 // singleBetaGap says how far the pool's single Beta is from the pool: a
 // pool whose experts all have one Beta (a panel of one, say) is that Beta
 // exactly (elicit.Pool.BestBeta), and "at most 0 away" read as a rounding.
@@ -71,7 +100,7 @@ func singleBetaGap(gap float64) string {
 	if gap == 0 {
 		return "The single Beta is the pool itself: every pooled expert's fit is this one Beta."
 	}
-	return "The single Beta's CDF is at most " + elicit.GapText(gap) + " (in probability) away from the pool's. " +
+	return "The single Beta's CDF is " + gapAtMost(gap) + " (in probability) away from the pool's. " +
 		"A mixture of very different experts can be far from any one Beta: look at the picture before agreeing it."
 }
 
@@ -80,7 +109,7 @@ func singleBetaReportGap(gap float64) string {
 	if gap == 0 {
 		return "the pool itself (every pooled expert's fit is this one Beta)"
 	}
-	return "at most " + fv(gap) + " from the pool's CDF"
+	return gapAtMost(gap) + " from the pool's CDF"
 }
 
 // fieldPoolSeen is the agree form's record of the pool the page showed

@@ -95,7 +95,7 @@ func priorOrigin(q workshop.Question, a workshop.AgreedPrior) string {
 	if a.Source == workshop.PriorFromConsensus && a.Consensus != nil {
 		s := sourceLabel(a.Source) + " (" + answerSummary(q, *a.Consensus) + ")"
 		if gap, ok := consensusGap(q, a); ok {
-			s += ", largest probability gap " + fv(gap)
+			s += ", largest probability gap " + probGap(gap)
 		}
 		return s
 	}
@@ -1241,9 +1241,9 @@ func judgementTable(st questionState, ws workshop.Workshop) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var55 string
-					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(fv(row.Fit.MaxProbError))
+					templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(probGap(row.Fit.MaxProbError))
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_panel.templ`, Line: 338, Col: 87}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_panel.templ`, Line: 338, Col: 92}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var55))
 					if templ_7745c5c3_Err != nil {
