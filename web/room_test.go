@@ -130,7 +130,7 @@ func TestRoomViewShowsTheFeedbackAnonymously(t *testing.T) {
 	}
 }
 
-var percentileRow = regexp.MustCompile(`<tr><th scope="row">(Expert [A-Z]+|You)\s*<br><span class="chart-params">[^<]*</span></th><td>.*?</td><td>[^<]*</td><td>([^<]*)</td>`)
+var percentileRow = regexp.MustCompile(`<tr[^>]*><th scope="row"[^>]*>(Expert [A-Z]+|You)\s*<br><span class="chart-params">[^<]*</span></th><td[^>]*>.*?</td><td[^>]*>[^<]*</td><td[^>]*>([^<]*)</td>`)
 
 // labelMedians maps each labelled curve to its median in the picture's
 // percentile table.

@@ -1,0 +1,144 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// rareDecimal is a rare event's value written as a long plain decimal.
+var rareDecimal = regexp.MustCompile(`\b0\.000\d{3,}`)
+
+// TestRareEventChartTablesOnAPhone: the tables of numbers under the
+// pictures (the fit's stated against fitted values, each curve's 5%,
+// median and 95%, the medians' spread) fit the screen at 360, 390 and
+// 1366 px when a rare event's values are long plain decimals
+// ("0.00004089"): no table scrolls sideways inside its box and no cell
+// lies past the screen's edge, on the expert's question page with the
+// judgement 0.00002, 0.00005, 0.00012 saved, the facilitator's entry
+// page for it, the question's panel, its room view and its study page,
+// in round 2.
+func TestRareEventChartTablesOnAPhone(t *testing.T) {
+	site, d := startDemo(t)
+	ctx := context.Background()
+	q := d.qs[0]
+	priya := -1
+	for i, e := range d.experts {
+		vs := [][]float64{{0.00003, 0.0001, 0.00025}, {0.00005, 0.00015, 0.0004}, {0.00004, 0.00012, 0.0003}}[i%3]
+		if e.Name == "Priya Raman" {
+			priya, vs = i, []float64{0.00002, 0.00005, 0.00012}
+		}
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: vs}, Reason: "Rare in the field (invented)."}
+		if err := site.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if priya < 0 {
+		t.Fatal("no Priya in the demo")
+	}
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20003, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: "About 3 in 20,000 (invented).", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.RecordData(ctx, &workshop.StudyData{QuestionID: q.ID, Successes: 0, Trials: 1000,
+		Source: "Site log (invented)", ObservedOn: "2026-03-31"}); err != nil {
+		t.Fatal(err)
+	}
+	// Round 1 closes and round 2 opens: the room shows the panel, and the
+	// expert's page the other experts' curves beside her own fit.
+	if err := site.DB.SetRound(ctx, d.w.ID, 1, false, "Round 1 discussed (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.SetRound(ctx, d.w.ID, 2, true, "A second round (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	expert := br.person("Priya Raman (on a phone)")
+	qURL := d.url + "/q/" + strconv.FormatInt(q.ID, 10)
+	pages := []struct {
+		name string
+		p    *person
+		url  string
+	}{
+		{"expert", expert, site.URL + linkOf(t, d.links, "Priya Raman") + "q/" + strconv.FormatInt(q.ID, 10)},
+		{"entry", fac, qURL + "/enter/" + strconv.FormatInt(d.experts[priya].ID, 10)},
+		{"panel", fac, qURL},
+		{"room", fac, qURL + "/room"},
+		{"study", fac, qURL + "/study"},
+	}
+	for _, pg := range pages {
+		for _, w := range []int64{360, 390, 1366} {
+			where := fmt.Sprintf("%s at %d px", pg.name, w)
+			pg.p.viewport(w, 900, w < 600)
+			if st := pg.p.open(pg.url); st != http.StatusOK {
+				t.Fatalf("%s: %d", where, st)
+			}
+			tables := eval[[]string](pg.p, "the tables under the pictures", `(() => {
+				const out = [];
+				document.querySelectorAll(".chart-table").forEach((tb, i) => {
+					if (!tb.getClientRects().length) return;
+					tb.setAttribute("data-shot", String(i));
+					const box = tb.closest(".chart-with-table");
+					if (box) box.setAttribute("data-shot-box", String(i));
+					out.push(String(i) + " " + tb.innerText.replace(/\s+/g, " ").trim().slice(0, 300));
+				});
+				return out;
+			})()`)
+			if len(tables) == 0 {
+				t.Errorf("%s: no table of numbers under a picture is shown", where)
+			}
+			if long := strings.Join(tables, " | "); !rareDecimal.MatchString(long) {
+				t.Errorf("%s: no rare event's long decimal in the tables, so nothing is tested: %q", where, long)
+			}
+			wide := eval[[]string](pg.p, "tables scrolling sideways", `(() => {
+				const out = [];
+				for (const tb of document.querySelectorAll(".chart-table")) {
+					if (!tb.getClientRects().length) continue;
+					for (let b = tb; b && b !== document.body; b = b.parentElement) {
+						if (b !== tb && !["auto", "scroll"].includes(getComputedStyle(b).overflowX)) continue;
+						if (b.scrollWidth > b.clientWidth + 1) out.push((b === tb ? "the table " : "its box " + b.className + " ") + "scrolls: " + b.scrollWidth + " > " + b.clientWidth + " px (" + (tb.caption ? tb.caption.innerText.trim() : "") + ")");
+					}
+				}
+				return out;
+			})()`)
+			for _, s := range wide {
+				t.Errorf("%s: %s", where, s)
+			}
+			cut := eval[[]string](pg.p, "cells past the screen", `[...document.querySelectorAll(".chart-table :is(th, td, caption)")].filter(c => {
+				if (!c.getClientRects().length) return false;
+				const r = c.getBoundingClientRect();
+				return r.width > 0 && (r.right > `+strconv.FormatInt(w, 10)+` + 0.5 || r.left < -0.5);
+			}).map(c => c.innerText.trim() + " (" + Math.round(c.getBoundingClientRect().left) + " to " + Math.round(c.getBoundingClientRect().right) + " px)").slice(0, 6)`)
+			if len(cut) > 0 {
+				t.Errorf("%s: cells lie past the screen: %q", where, cut)
+			}
+			// A table whose headings are hidden (a phone's blocks of lines)
+			// names each number: by its label, or by its row's heading.
+			unnamed := eval[[]string](pg.p, "numbers without their names", `[...document.querySelectorAll(".chart-table")].filter(tb => tb.getClientRects().length && (!tb.tHead || !tb.tHead.getClientRects().length)).flatMap(tb => [...tb.querySelectorAll("td")].filter(c => c.getClientRects().length && c.innerText.trim() && getComputedStyle(c, "::before").content === "none" && ![...c.parentElement.children].some(h => h.tagName === "TH" && h.getClientRects().length))).map(c => c.innerText.trim()).slice(0, 6)`)
+			if len(unnamed) > 0 {
+				t.Errorf("%s: numbers shown without their column's name: %q", where, unnamed)
+			}
+			for _, tb := range tables {
+				n, _, _ := strings.Cut(tb, " ")
+				shots.part(pg.p, `.chart-table[data-shot="`+n+`"]`, fmt.Sprintf("chart-table-%s-%s-%d", pg.name, n, w))
+				// The table with its picture, as the page sets them.
+				shots.part(pg.p, `[data-shot-box="`+n+`"]`, fmt.Sprintf("chart-table-%s-%s-%d-with-picture", pg.name, n, w))
+			}
+		}
+	}
+}
