@@ -105,17 +105,7 @@ func TestRareEventChartTablesOnAPhone(t *testing.T) {
 			if long := strings.Join(tables, " | "); !rareDecimal.MatchString(long) {
 				t.Errorf("%s: no rare event's long decimal in the tables, so nothing is tested: %q", where, long)
 			}
-			wide := eval[[]string](pg.p, "tables scrolling sideways", `(() => {
-				const out = [];
-				for (const tb of document.querySelectorAll(".chart-table")) {
-					if (!tb.getClientRects().length) continue;
-					for (let b = tb; b && b !== document.body; b = b.parentElement) {
-						if (b !== tb && !["auto", "scroll"].includes(getComputedStyle(b).overflowX)) continue;
-						if (b.scrollWidth > b.clientWidth + 1) out.push((b === tb ? "the table " : "its box " + b.className + " ") + "scrolls: " + b.scrollWidth + " > " + b.clientWidth + " px (" + (tb.caption ? tb.caption.innerText.trim() : "") + ")");
-					}
-				}
-				return out;
-			})()`)
+			wide := chartTablesScrolling(pg.p)
 			for _, s := range wide {
 				t.Errorf("%s: %s", where, s)
 			}
@@ -141,4 +131,22 @@ func TestRareEventChartTablesOnAPhone(t *testing.T) {
 			}
 		}
 	}
+}
+
+// chartTablesScrolling names each visible table of numbers under a
+// picture (.chart-table) that scrolls sideways, in itself or in a box
+// around it that scrolls: on a phone its last columns lie behind a
+// scroll that a reader may never find.
+func chartTablesScrolling(p *person) []string {
+	return eval[[]string](p, "tables under the pictures scrolling sideways", `(() => {
+		const out = [];
+		for (const tb of document.querySelectorAll(".chart-table")) {
+			if (!tb.getClientRects().length) continue;
+			for (let b = tb; b && b !== document.body; b = b.parentElement) {
+				if (b !== tb && !["auto", "scroll"].includes(getComputedStyle(b).overflowX)) continue;
+				if (b.scrollWidth > b.clientWidth + 1) out.push("“" + (tb.caption ? tb.caption.innerText.trim() : tb.className) + "” scrolls sideways: " + (b === tb ? "the table" : "its box ." + b.className.trim().split(/\s+/).join(".")) + " holds " + b.scrollWidth + " px in " + b.clientWidth);
+			}
+		}
+		return out;
+	})()`)
 }

@@ -104,7 +104,8 @@ func twentieths() []float64 {
 func (g *deviceRig) wsURL() string { return g.site.URL + "/w/" + strconv.FormatInt(g.ws.ID, 10) }
 
 // fits checks the page at the person's current width: no sideways
-// scroll of the page, and every visible picture keeps its labels and
+// scroll of the page, on a phone no table of numbers under a picture
+// scrolling sideways, and every visible picture keeps its labels and
 // markers inside its box with text at 11 px or more.
 func fits(t *testing.T, p *person, where string, width int64) {
 	t.Helper()
@@ -138,6 +139,14 @@ func fits(t *testing.T, p *person, where string, width int64) {
 		return out;
 	})()`); len(out) > 0 {
 		t.Errorf("%s at %d px: content out of its scroll box's reach: %q", where, width, out)
+	}
+	// On a phone no table of numbers under a picture scrolls sideways:
+	// its last column (a curve's 95% point) lay behind a scroll an
+	// expert may never find.
+	if width < 600 {
+		for _, s := range chartTablesScrolling(p) {
+			t.Errorf("%s at %d px: a table under a picture, %s", where, width, s)
+		}
 	}
 	oneLineTimes(t, p, fmt.Sprintf("%s at %d px", where, width), false)
 	// On a phone a history (the expert's own, and the one on the
