@@ -16,6 +16,9 @@ import (
 // rareDecimal is a rare event's value written as a long plain decimal.
 var rareDecimal = regexp.MustCompile(`\b0\.000\d{3,}`)
 
+// exponent is a number written with an exponent ("5.055e-5").
+var exponent = regexp.MustCompile(`\d(?:\.\d+)?e[-+]?\d+`)
+
 // TestRareEventChartTablesOnAPhone: the tables of numbers under the
 // pictures (the fit's stated against fitted values, each curve's 5%,
 // median and 95%, the medians' spread) fit the screen at 360, 390 and
@@ -104,6 +107,10 @@ func TestRareEventChartTablesOnAPhone(t *testing.T) {
 			}
 			if long := strings.Join(tables, " | "); !rareDecimal.MatchString(long) {
 				t.Errorf("%s: no rare event's long decimal in the tables, so nothing is tested: %q", where, long)
+			}
+			// Every number in plain decimals, as the expert typed hers.
+			if exp := exponent.FindAllString(strings.Join(tables, " | "), -1); len(exp) > 0 {
+				t.Errorf("%s: a table under a picture writes %q with an exponent", where, exp)
 			}
 			wide := chartTablesScrolling(pg.p)
 			for _, s := range wide {

@@ -178,3 +178,31 @@ func TestMedianStripForASmallPanel(t *testing.T) {
 		t.Errorf("five experts: box %v, rows %+v", strings.Contains(html, "median-box"), m.Rows)
 	}
 }
+
+// A rare event's medians read as the table of each curve's percentiles
+// writes them (FormatWithin), in plain decimals: the room's table of the
+// medians' spread wrote "5.055e-5" beside a panel that wrote "0.00005055",
+// and the strip's caption and true value likewise.
+func TestMedianStripWritesARareEventsMediansInPlainDecimals(t *testing.T) {
+	truth := 0.00004
+	v := MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1, Labels: []string{"Expert A", "Expert B", "Expert C"},
+		Medians: []float64{0.00005055, 0.0001004, 0.0001518}, Truth: &truth}
+	m := newMedianStrip(v)
+	var got []string
+	for _, r := range m.Rows {
+		got = append(got, r.Value)
+	}
+	if want := []string{"0.00005055", "0.0001004", "0.0001518"}; strings.Join(got, " ") != strings.Join(want, " ") {
+		t.Errorf("the table writes the medians %q, want %q", got, want)
+	}
+	if !strings.Contains(m.Desc, "Expert A 0.00005055") || !strings.Contains(m.Desc, "is 0.00004.") {
+		t.Errorf("the caption reads %q", m.Desc)
+	}
+	var b strings.Builder
+	if err := MedianStrip(v).Render(context.Background(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(b.String(), ">true value 0.00004<") || regexp.MustCompile(`>[^<]*\de-\d`).MatchString(b.String()) {
+		t.Errorf("the strip writes an exponent:\n%s", b.String())
+	}
+}

@@ -24,6 +24,14 @@ type MedianStripView struct {
 	Truth    *float64  // the revealed true value, nil until revealed
 }
 
+// value writes a median or the true value as the panel's table writes
+// the curves' points (FormatWithin): a rare event's median is
+// "0.00005055", as in the table of each curve's percentiles, not
+// "5.055e-5".
+func (v MedianStripView) value(x float64) string {
+	return FormatWithin(x, v.Lower, v.Upper, false)
+}
+
 type stripDot struct {
 	X, Y, LabelY, Label, Value string
 }
@@ -104,7 +112,7 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 	m.Title = "The panel's medians of " + q
 	parts := make([]string, len(v.Medians))
 	for i := range v.Medians {
-		parts[i] = v.Labels[i] + " " + FormatValue(v.Medians[i])
+		parts[i] = v.Labels[i] + " " + v.value(v.Medians[i])
 	}
 	// Every number is an actual expert's median (nearest rank). Below
 	// minBoxMedians the quartiles are the extremes or next to them, so
@@ -115,23 +123,23 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 		mid = "middle expert's median (the lower of the two middle ones)"
 	}
 	if len(v.Medians) < minBoxMedians {
-		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". The " + mid + " is " + FormatValue(sp.Median) + "."
+		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". The " + mid + " is " + v.value(sp.Median) + "."
 		for i := range m.Drawings {
 			m.Drawings[i].NoBox = true
 		}
 	} else {
 		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". Half of the medians lie between " +
-			FormatValue(sp.LowerQuartile) + " and " + FormatValue(sp.UpperQuartile) + " (the box), and the " + mid + " is " + FormatValue(sp.Median) + "."
+			v.value(sp.LowerQuartile) + " and " + v.value(sp.UpperQuartile) + " (the box), and the " + mid + " is " + v.value(sp.Median) + "."
 	}
 	if v.Truth != nil {
-		m.Desc += " The true value, now revealed, is " + FormatValue(*v.Truth) + "."
+		m.Desc += " The true value, now revealed, is " + v.value(*v.Truth) + "."
 	}
 	m.Rows = []spreadQuartile{
-		{"lowest", FormatValue(sp.Lowest)}, {"lower quartile", FormatValue(sp.LowerQuartile)}, {mid, FormatValue(sp.Median)},
-		{"upper quartile", FormatValue(sp.UpperQuartile)}, {"highest", FormatValue(sp.Highest)},
+		{"lowest", v.value(sp.Lowest)}, {"lower quartile", v.value(sp.LowerQuartile)}, {mid, v.value(sp.Median)},
+		{"upper quartile", v.value(sp.UpperQuartile)}, {"highest", v.value(sp.Highest)},
 	}
 	if len(v.Medians) < minBoxMedians {
-		m.Rows = []spreadQuartile{{"lowest", FormatValue(sp.Lowest)}, {mid, FormatValue(sp.Median)}, {"highest", FormatValue(sp.Highest)}}
+		m.Rows = []spreadQuartile{{"lowest", v.value(sp.Lowest)}, {mid, v.value(sp.Median)}, {"highest", v.value(sp.Highest)}}
 	}
 	return m
 }
@@ -183,7 +191,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	}
 	if v.Truth != nil {
 		tx := f.px(*v.Truth)
-		label := "true value " + FormatValue(*v.Truth)
+		label := "true value " + v.value(*v.Truth)
 		// Keep the label inside the picture at the largest size a
 		// stylesheet gives it (16px bold on the wide strip, and the
 		// projector's view scales the whole picture, not the label alone):
