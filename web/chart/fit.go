@@ -128,35 +128,40 @@ func newFitModel(v FitView) fitModel {
 		xs = append(xs, p.X)
 	}
 	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist, Percentiles: &v.Percentiles}
+	// The percentiles are one range, written to figures that keep them
+	// apart, in the caption, the table and the labels alike.
+	copy(m.Pcts[:], FormatRangeWithin(v.Percentiles[:], v.Lower, v.Upper, v.Percent))
 	for i, lay := range layouts {
 		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}
 		d.Points = fitPoints(v, d.Twin)
-		d.Marks = fitMarks(v, d.Twin)
+		d.Marks = fitMarks(v, d.Twin, m.Pcts)
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
+	var stated, fitted []float64
 	for i, p := range v.Points {
 		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
 			continue
 		}
-		var fitted, chance float64
+		var x, chance float64
 		if len(v.Fitted) == len(v.Points) && len(v.FittedProbs) == len(v.Points) {
-			fitted, chance = v.Fitted[i], v.FittedProbs[i]
+			x, chance = v.Fitted[i], v.FittedProbs[i]
 		} else {
-			fitted, chance = v.Dist.Quantile(p.P), v.Dist.CDF(p.X)
+			x, chance = v.Dist.Quantile(p.P), v.Dist.CDF(p.X)
 		}
-		m.Rows = append(m.Rows, fitRow{
-			Chance:       FormatPercent(p.P),
-			Stated:       v.value(p.X),
-			Fitted:       v.value(fitted),
-			FittedChance: fittedChance(chance),
-		})
+		stated, fitted = append(stated, p.X), append(fitted, x)
+		m.Rows = append(m.Rows, fitRow{Chance: FormatPercent(p.P), FittedChance: fittedChance(chance)})
 	}
-	for i, x := range v.Percentiles {
-		m.Pcts[i] = v.value(x)
+	// Each column is one range: values typed apart, and the fitted values
+	// at the probabilities asked, read apart.
+	for i, text := range FormatRangeWithin(stated, v.Lower, v.Upper, v.Percent) {
+		m.Rows[i].Stated = text
+	}
+	for i, text := range FormatRangeWithin(fitted, v.Lower, v.Upper, v.Percent) {
+		m.Rows[i].Fitted = text
 	}
 	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your stated values", "you said", "fitted chance below yours"
 	if v.Whose != "" {
@@ -201,8 +206,9 @@ func fitPoints(v FitView, g twinGeom) []pointGeom {
 // that fits nowhere by its line goes on the row it overlaps least, and
 // that row's labels are then pushed apart, inside the picture, so that
 // none covers another (three labels crowded at one end, as for a Beta
-// piled against a bound).
-func fitMarks(v FitView, g twinGeom) []markGeom {
+// piled against a bound). pcts are the percentiles as the table writes
+// them.
+func fitMarks(v FitView, g twinGeom, pcts [3]string) []markGeom {
 	type label struct {
 		i      int // index into out
 		anchor string
@@ -230,7 +236,7 @@ func fitMarks(v FitView, g twinGeom) []markGeom {
 		// The number the table, the caption and the read-back give, to the
 		// same figures: a label of 0.198 beside a table's 0.1979 read as
 		// two answers.
-		text := names[i] + " " + v.value(x)
+		text := names[i] + " " + pcts[i]
 		w := labelEm(text, true) * percentileLabelPx(g.Layout.Name)
 		places := []label{{anchor: "middle", left: px - w/2}, {anchor: "start", left: px - 4}, {anchor: "end", left: px + 4 - w}}
 		inside := func(l label) bool { return l.left >= 2 && l.left+w <= width-2 }

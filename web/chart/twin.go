@@ -400,8 +400,11 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 
 	switch {
 	case x0 > lower && x1 < upper:
+		// The window's ends are one range: a narrow window far from zero,
+		// [1229.5, 1230.5], ran "from 1230 to 1230".
+		ends := FormatRangeWithin([]float64{x0, x1}, lower, upper, k.percent)
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis runs from %s to %s, inside the bounds %s and %s.",
-			xv(x0), xv(x1), xv(lower), xv(upper)))
+			ends[0], ends[1], xv(lower), xv(upper)))
 	case x0 > lower:
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis starts at %s, not at the lower bound %s.",
 			xv(x0), xv(lower)))
