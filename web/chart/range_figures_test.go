@@ -65,3 +65,20 @@ func TestFitPictureWritesANarrowRangeApart(t *testing.T) {
 		t.Errorf("equal values written %q", got)
 	}
 }
+
+// The steadiness picture's caption writes the whole panel's pool, a
+// window around 0.4027 no wider than 3e-6, read "0.4027 to 0.4027, median
+// 0.4027" at four figures.
+func TestSteadinessCaptionWritesANarrowPoolApart(t *testing.T) {
+	full := [3]float64{0.40271609, 0.4027175, 0.40271885}
+	m := newSteadyPanel("s", SteadinessTarget{Title: "Q1 invented share", Lower: 0, Upper: 1, Full: full,
+		Rows: []SteadinessRow{{Label: "without Q2", Pool: &[3]float64{0.4027161, 0.4027176, 0.4027189}, Shift: 4e-8}}})
+	got := regexp.MustCompile(`whole panel's \((\S+) to (\S+), median (\S+)\)`).FindStringSubmatch(m.Desc)
+	if got == nil {
+		t.Fatalf("caption %q does not give the whole panel's pool", m.Desc)
+	}
+	distinctTexts(t, "the whole panel's pool", []float64{full[0], full[2], full[1]}, got[1:])
+	if want := "(0.402716 to 0.402719, median 0.402718)"; !strings.Contains(m.Desc, want) {
+		t.Errorf("caption %q lacks %q", m.Desc, want)
+	}
+}

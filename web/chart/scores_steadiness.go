@@ -158,10 +158,14 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 			largest, which = r.Shift, r.Label
 		}
 	}
+	// The whole panel's points are one range, written as the table below
+	// the pictures writes them (FormatWithin on the question's bounds),
+	// apart: a window around 0.4027 read "0.4027 to 0.4027, median 0.4027".
+	full := FormatRangeWithin(t.Full[:], t.Lower, t.Upper, false)
 	m.Desc = fmt.Sprintf("The performance-weighted pool on %s, rerun without one calibration question or one expert at a time. "+
 		"Each line runs from the pool's 5th to its 95th percentile with a dot at its median; the shaded band and the dashed line are the whole panel's "+
 		"(%s to %s, median %s). At the right, the largest move of any of the three points, as a fraction of the question's range.",
-		t.Title, FormatValue(t.Full[0]), FormatValue(t.Full[2]), FormatValue(t.Full[1]))
+		t.Title, full[0], full[2], full[1])
 	if largest >= 0 {
 		m.Desc += fmt.Sprintf(" The largest is %s, %s.", FormatValue(largest), which)
 	}
