@@ -1240,3 +1240,29 @@ func TestCorrectionFormSaysWhetherTheTrueValueIsShown(t *testing.T) {
 		t.Error("after the reveal the correction form does not say the true value is shown")
 	}
 }
+
+// The steadiness table and pictures write a shift as the page writes its
+// other values, in plain decimals: a rerun that moved the pool by a
+// ten-millionth of the range read "1e-7".
+func TestSteadinessShiftsInPlainDecimals(t *testing.T) {
+	qs := []workshop.Question{{ID: 7, Position: 1, Quantity: "invented share", Lower: 0, Upper: 1}}
+	pool := workshop.Percentiles{P05: 0.2, P50: 0.3, P95: 0.4}
+	moved := workshop.Percentiles{P05: 0.2, P50: 0.3000001, P95: 0.4}
+	rb := &workshop.Robustness{Targets: []int64{7}, Full: []workshop.TargetPool{{QuestionID: 7, Percentiles: pool}}, Largest: 1e-7,
+		Rows: []workshop.RobustnessRow{{LeftOut: elicit.LeaveOutExpert, ID: 2, Label: "Bo", Alpha: 0.1,
+			Weights: []workshop.ExpertWeight{{ExpertID: 1, Weight: 1}}, Pools: []workshop.TargetPool{{QuestionID: 7, Percentiles: moved}},
+			Shifts: []float64{1e-7}, Shift: 1e-7}}}
+	names := map[int64]string{1: "Ada", 2: "Bo"}
+	s := newSteadiness("steady", rb, qs, names)
+	if s.Rows[0].Shift != "0.0000001" || s.Largest != "0.0000001" {
+		t.Errorf("the table's shift %q, the largest %q; want 0.0000001", s.Rows[0].Shift, s.Largest)
+	}
+	var b strings.Builder
+	if err := steadinessSection(rb, "", qs, names, false).Render(context.Background(), &b); err != nil {
+		t.Fatal(err)
+	}
+	if html := b.String(); strings.Contains(html, "1e-7") || !strings.Contains(html, `data-value="1e-07">0.0000001</text>`) ||
+		!strings.Contains(html, "The largest is 0.0000001, without Bo.") {
+		t.Errorf("the section writes a shift with an exponent:\n%s", html)
+	}
+}

@@ -256,7 +256,7 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		}
 		return "question " + strconv.FormatInt(id, 10)
 	}
-	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fv(rb.Largest)}
+	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fvSpread(rb.Largest)}
 	full := map[int64]workshop.Percentiles{}
 	for _, p := range rb.Full {
 		full[p.QuestionID] = p.Percentiles
@@ -290,7 +290,7 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		scored[r.LeftOut]++
 	}
 	for k, r := range rb.Rows {
-		l := rerunLine{Error: rerunError(r, scored[r.LeftOut]), Alpha: alphaText(r.Alpha, r.LogAlpha), Shift: fv(r.Shift)}
+		l := rerunLine{Error: rerunError(r, scored[r.LeftOut]), Alpha: alphaText(r.Alpha, r.LogAlpha), Shift: fvSpread(r.Shift)}
 		// A rule under the whole panel's row, and between the reruns
 		// without a question and those without an expert.
 		newGroup := k == 0 || rb.Rows[k-1].LeftOut != r.LeftOut

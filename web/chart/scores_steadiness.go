@@ -167,7 +167,7 @@ func newSteadyPanel(id string, t SteadinessTarget) steadyPanel {
 		"(%s to %s, median %s). At the right, the largest move of any of the three points, as a fraction of the question's range.",
 		t.Title, full[0], full[2], full[1])
 	if largest >= 0 {
-		m.Desc += fmt.Sprintf(" The largest is %s, %s.", FormatValue(largest), which)
+		m.Desc += fmt.Sprintf(" The largest is %s, %s.", FormatSpread(largest), which)
 	}
 	return m
 }
@@ -218,8 +218,10 @@ func newSteadyDrawing(lay steadyLayout, t SteadinessTarget, x0, x1 float64) stea
 		shift, value := "", ""
 		if r.Pool != nil && isFinite(r.Shift) {
 			// The table's figures: at two, three rows of the demo read
-			// 0.011 beside a table of 0.01113 and others.
-			shift, value = FormatValue(r.Shift), fmt.Sprint(r.Shift)
+			// 0.011 beside a table of 0.01113 and others. In plain
+			// decimals, as the page writes its values: a shift of 1e-7
+			// is "0.0000001", not "1e-7".
+			shift, value = FormatSpread(r.Shift), fmt.Sprint(r.Shift)
 		}
 		g := row(i+1, r.Label, r.Pool, r.Note, shift, value)
 		if r.NewGroup {
