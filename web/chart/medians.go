@@ -97,8 +97,25 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 		pad = math.Max(math.Abs(lo)*0.1, (v.Upper-v.Lower)*0.01)
 	}
 	lo, hi = math.Max(v.Lower, lo-pad), math.Min(v.Upper, hi+pad)
+	// The medians and the true value are one range, written apart: every
+	// number of the strip is one of them (the quartiles are medians by
+	// nearest rank).
+	xs := append([]float64(nil), v.Medians...)
+	if v.Truth != nil {
+		xs = append(xs, *v.Truth)
+	}
+	texts := map[float64]string{}
+	for i, t := range FormatRangeWithin(xs, v.Lower, v.Upper, false) {
+		texts[xs[i]] = t
+	}
+	value := func(x float64) string {
+		if t, ok := texts[x]; ok {
+			return t
+		}
+		return v.value(x)
+	}
 	for i, lay := range layouts {
-		d := medianDrawingFor(lay, v, sp, lo, hi)
+		d := medianDrawingFor(lay, v, sp, lo, hi, value)
 		d.ID = m.ID
 		if i > 0 {
 			d.ID += "-" + lay.Name
@@ -112,7 +129,7 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 	m.Title = "The panel's medians of " + q
 	parts := make([]string, len(v.Medians))
 	for i := range v.Medians {
-		parts[i] = v.Labels[i] + " " + v.value(v.Medians[i])
+		parts[i] = v.Labels[i] + " " + value(v.Medians[i])
 	}
 	// Every number is an actual expert's median (nearest rank). Below
 	// minBoxMedians the quartiles are the extremes or next to them, so
@@ -123,29 +140,30 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 		mid = "middle expert's median (the lower of the two middle ones)"
 	}
 	if len(v.Medians) < minBoxMedians {
-		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". The " + mid + " is " + v.value(sp.Median) + "."
+		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". The " + mid + " is " + value(sp.Median) + "."
 		for i := range m.Drawings {
 			m.Drawings[i].NoBox = true
 		}
 	} else {
 		m.Desc = "Each expert's median: " + strings.Join(parts, ", ") + ". Half of the medians lie between " +
-			v.value(sp.LowerQuartile) + " and " + v.value(sp.UpperQuartile) + " (the box), and the " + mid + " is " + v.value(sp.Median) + "."
+			value(sp.LowerQuartile) + " and " + value(sp.UpperQuartile) + " (the box), and the " + mid + " is " + value(sp.Median) + "."
 	}
 	if v.Truth != nil {
-		m.Desc += " The true value, now revealed, is " + v.value(*v.Truth) + "."
+		m.Desc += " The true value, now revealed, is " + value(*v.Truth) + "."
 	}
 	m.Rows = []spreadQuartile{
-		{"lowest", v.value(sp.Lowest)}, {"lower quartile", v.value(sp.LowerQuartile)}, {mid, v.value(sp.Median)},
-		{"upper quartile", v.value(sp.UpperQuartile)}, {"highest", v.value(sp.Highest)},
+		{"lowest", value(sp.Lowest)}, {"lower quartile", value(sp.LowerQuartile)}, {mid, value(sp.Median)},
+		{"upper quartile", value(sp.UpperQuartile)}, {"highest", value(sp.Highest)},
 	}
 	if len(v.Medians) < minBoxMedians {
-		m.Rows = []spreadQuartile{{"lowest", v.value(sp.Lowest)}, {mid, v.value(sp.Median)}, {"highest", v.value(sp.Highest)}}
+		m.Rows = []spreadQuartile{{"lowest", value(sp.Lowest)}, {mid, value(sp.Median)}, {"highest", value(sp.Highest)}}
 	}
 	return m
 }
 
-// medianDrawingFor lays the strip out over [lo, hi] in lay's width.
-func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo, hi float64) medianDrawing {
+// medianDrawingFor lays the strip out over [lo, hi] in lay's width;
+// value writes its numbers.
+func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo, hi float64, value func(float64) string) medianDrawing {
 	d := medianDrawing{Layout: lay.Name}
 	// Dots that would overlap are stacked in rows, lowest median first.
 	order := make([]int, len(v.Medians))
@@ -187,11 +205,11 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	for i, med := range v.Medians {
 		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
 		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
-			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: FormatValue(med)})
+			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: value(med)})
 	}
 	if v.Truth != nil {
 		tx := f.px(*v.Truth)
-		label := "true value " + v.value(*v.Truth)
+		label := "true value " + value(*v.Truth)
 		// Keep the label inside the picture at the largest size a
 		// stylesheet gives it (16px bold on the wide strip, and the
 		// projector's view scales the whole picture, not the label alone):

@@ -29,6 +29,12 @@ func (v PanelView) value(x float64) string {
 	return FormatWithin(x, v.Lower, v.Upper, v.Percent)
 }
 
+// values writes the values of one range of the quantity as value does,
+// apart (FormatRangeWithin).
+func (v PanelView) values(xs ...float64) []string {
+	return FormatRangeWithin(xs, v.Lower, v.Upper, v.Percent)
+}
+
 type legendGeom struct {
 	Y, TextY string
 	X1, X2   string
@@ -105,7 +111,7 @@ func newPanelModel(v PanelView) panelModel {
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}
-		d.Legend = panelLegend(&d.Twin, curves, v.value)
+		d.Legend = panelLegend(&d.Twin, curves, v.values)
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
@@ -133,9 +139,9 @@ func newPanelModel(v PanelView) panelModel {
 
 // panelLegend lays the legend out under g's plots, in the layout's
 // columns, and makes room for it: the picture keeps the plots' width and
-// its text stays legible when a phone shrinks it. value writes the
-// curves' percentiles.
-func panelLegend(g *twinGeom, curves []Curve, value func(float64) string) []legendGeom {
+// its text stays legible when a phone shrinks it. values writes a curve's
+// percentiles, one range.
+func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []string) []legendGeom {
 	lay := g.Layout
 	top := g.Height + 4
 	cols := lay.LegendCols
@@ -151,7 +157,8 @@ func panelLegend(g *twinGeom, curves []Curve, value func(float64) string) []lege
 			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
 		}
 		p := g.percentiles[i]
-		lg.P5, lg.P50, lg.P95 = value(p[0]), value(p[1]), value(p[2])
+		ps := values(p[0], p[1], p[2])
+		lg.P5, lg.P50, lg.P95 = ps[0], ps[1], ps[2]
 		if b, ok := c.beta(); ok {
 			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatShape(b.Alpha), FormatShape(b.Beta.Beta))
 		}

@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"github.com/parley-elicit/parley/elicit"
 	"regexp"
 	"strings"
 	"testing"
@@ -81,4 +82,62 @@ func TestSteadinessCaptionWritesANarrowPoolApart(t *testing.T) {
 	if want := "(0.402716 to 0.402719, median 0.402718)"; !strings.Contains(m.Desc, want) {
 		t.Errorf("caption %q lacks %q", m.Desc, want)
 	}
+}
+
+// The other pictures' words write each range apart too: a curve's
+// percentiles in the panel's legend, the spread of the experts' medians,
+// the median strip's medians and true value, and each prior's posterior
+// mean and interval on the study's comparison. Each is drawn around 1230
+// on [1000, 2000], where four figures write every value "1230".
+func TestPicturesWriteNarrowRangesApart(t *testing.T) {
+	d := narrowFit().Dist
+	p := [3]float64{d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)}
+	pm := newPanelModel(PanelView{Quantity: "invented load", Lower: 1000, Upper: 2000, Curves: []Curve{{Label: "Expert A", Role: RoleExpert, Dist: d}}})
+	if pm.Invalid != "" {
+		t.Fatal(pm.Invalid)
+	}
+	l := pm.Legend[0]
+	distinctTexts(t, "the legend's percentiles", p[:], []string{l.P5, l.P50, l.P95})
+	if want := "median " + l.P50 + ", 90% between " + l.P5 + " and " + l.P95; !strings.Contains(pm.Desc, want) {
+		t.Errorf("panel caption %q lacks %q", pm.Desc, want)
+	}
+
+	var others []elicit.ScaledBeta
+	for _, a := range []float64{2.2998e6, 2.2999e6, 2.3e6, 2.3001e6, 2.3002e6} {
+		others = append(others, sbeta(a, 1e7-a, 1000, 2000))
+	}
+	sm := newSpreadModel(SpreadView{Quantity: "invented load", Lower: 1000, Upper: 2000, Others: others})
+	var meds []float64
+	var medTexts []string
+	for i, q := range sm.Quartiles {
+		meds, medTexts = append(meds, others[i].Quantile(0.5)), append(medTexts, q.Value)
+	}
+	distinctTexts(t, "the spread's medians", meds, medTexts)
+
+	truth := 1230.05
+	ms := newMedianStrip(MedianStripView{Quantity: "invented load", Lower: 1000, Upper: 2000,
+		Labels: []string{"Expert A", "Expert B", "Expert C"}, Medians: []float64{1229.9, 1230.0, 1230.2}, Truth: &truth})
+	var rowTexts []string
+	for _, r := range ms.Rows {
+		rowTexts = append(rowTexts, r.Value)
+	}
+	distinctTexts(t, "the strip's numbers", []float64{1229.9, 1230.0, 1230.2}, rowTexts)
+	for _, want := range []string{"Expert A 1229.9, Expert B 1230, Expert C 1230.2.", "The true value, now revealed, is 1230.05."} {
+		if !strings.Contains(ms.Desc, want) {
+			t.Errorf("strip caption %q lacks %q", ms.Desc, want)
+		}
+	}
+	for _, dr := range ms.Drawings {
+		if dr.Dots[2].Value != "1230.2" || dr.Truth == nil || dr.Truth.Label != "true value 1230.05" {
+			t.Errorf("%s strip: dot %q, true value %+v", dr.Layout, dr.Dots[2].Value, dr.Truth)
+		}
+	}
+
+	im := newIntervalsModel(IntervalsView{Rows: []IntervalRow{{Label: "agreed prior", Mean: 0.40271750, Lo: 0.40271609, Hi: 0.40271885}}})
+	got := regexp.MustCompile(`agreed prior: mean (\S+), from (\S+) to (\S+);?`).FindStringSubmatch(im.Desc)
+	if got == nil {
+		t.Fatalf("comparison caption %q lacks the prior's row", im.Desc)
+	}
+	got[3] = strings.TrimSuffix(got[3], ".")
+	distinctTexts(t, "the comparison's row", []float64{0.40271750, 0.40271609, 0.40271885}, got[1:])
 }

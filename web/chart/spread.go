@@ -125,13 +125,14 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if err != nil {
 		return m
 	}
-	value := PanelView{Lower: v.Lower, Upper: v.Upper, Percent: v.Percent}.value
+	// The five are one range, written apart.
+	q := PanelView{Lower: v.Lower, Upper: v.Upper, Percent: v.Percent}.values(ms.Lowest, ms.LowerQuartile, ms.Median, ms.UpperQuartile, ms.Highest)
 	m.Quartiles = []spreadQuartile{
-		{"lowest", value(ms.Lowest)},
-		{"lower quartile", value(ms.LowerQuartile)},
-		{"median", value(ms.Median)},
-		{"upper quartile", value(ms.UpperQuartile)},
-		{"highest", value(ms.Highest)},
+		{"lowest", q[0]},
+		{"lower quartile", q[1]},
+		{"median", q[2]},
+		{"upper quartile", q[3]},
+		{"highest", q[4]},
 	}
 	what, other, line := "experts'", "other ", "One line per other expert"
 	if len(iv) == 1 {

@@ -434,8 +434,9 @@ func newIntervalsModel(v IntervalsView) intervalsModel {
 	for _, r := range v.Rows {
 		// The table beside the picture writes these as points of the
 		// proportion (FormatWithin on [0, 1]); so do its words.
-		p := func(x float64) string { return FormatWithin(x, 0, 1, false) }
-		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, p(r.Mean), p(r.Lo), p(r.Hi)))
+		// Each row's mean and ends are one range, written apart.
+		p := FormatRangeWithin([]float64{r.Mean, r.Lo, r.Hi}, 0, 1, false)
+		words = append(words, fmt.Sprintf("%s: mean %s, from %s to %s", r.Label, p[0], p[1], p[2]))
 	}
 	interval := v.Interval
 	if interval == "" {

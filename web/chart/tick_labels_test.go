@@ -199,7 +199,7 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 				if lay.Name == wideLayout.Name {
 					px = medianTickPx
 				}
-				d := medianDrawingFor(lay, v, sp, x0, x1)
+				d := medianDrawingFor(lay, v, sp, x0, x1, FormatValue)
 				checkTickGeoms(t, lay.Name+" median strip"+over, d.Ticks, px, lay.width())
 			}
 		}
