@@ -285,6 +285,20 @@ func fittedAsTyped(q workshop.Question, x float64, percent bool) string {
 	return typedBack(q, x, percent && q.ValuesInPercent())
 }
 
+// fittedRangeAsTyped writes a fit's 5%, 50% and 95% points as
+// fittedAsTyped does, as one range, each as far as it takes to read apart
+// from the others (chart.FormatRangeWithin).
+func fittedRangeAsTyped(q workshop.Question, percent bool, xs ...float64) []string {
+	return typedRange(q, percent && q.ValuesInPercent(), xs...)
+}
+
+// typedRange writes values of one range of q (a judgement's values, a
+// fit's points) as typedBack does, each as far as it takes to read apart
+// from the others (chart.FormatRangeWithin).
+func typedRange(q workshop.Question, percent bool, xs ...float64) []string {
+	return chart.FormatRangeWithin(xs, q.Lower, q.Upper, percent)
+}
+
 // confidenceBack writes a four-value confidence as typed, a percentage
 // short of 100% however close to it.
 func confidenceBack(c float64) string { return chart.FormatWithin(c, 0, 1, true) }
@@ -296,8 +310,9 @@ func readAsLine(q workshop.Question, values []float64) string {
 		return ""
 	}
 	parts := make([]string, len(values))
-	for i, v := range values {
-		parts[i] = typedBack(q, v, false) + " (" + typedBack(q, v, true) + ")"
+	plain, pct := typedRange(q, false, values...), typedRange(q, true, values...)
+	for i := range values {
+		parts[i] = plain[i] + " (" + pct[i] + ")"
 	}
 	last := len(parts) - 1
 	if last == 0 {

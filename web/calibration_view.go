@@ -238,9 +238,10 @@ type steadiness struct {
 	Of      string // what the watched questions are, in words
 }
 
-// poolText writes a pool's 5%, 50% and 95% points on q's bounds.
+// poolText writes a pool's 5%, 50% and 95% points on q's bounds, apart
+// (pointsIn).
 func poolText(p workshop.Percentiles, q workshop.Question) string {
-	return fvIn(p.P05, q.Lower, q.Upper) + " · " + fvIn(p.P50, q.Lower, q.Upper) + " · " + fvIn(p.P95, q.Lower, q.Upper)
+	return strings.Join(pointsIn(q.Lower, q.Upper, p.P05, p.P50, p.P95), " · ")
 }
 
 // newSteadiness prepares rb for the page; questions give the labels and

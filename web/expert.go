@@ -261,7 +261,13 @@ func upperFirst(s string) string {
 // readBack turns one stated pair P(X ≤ x) = p into a sentence, speaking of
 // the smaller tail so that 95% reads "1 in 20 ... above".
 func readBack(p, x float64, q workshop.Question, percent bool, sp speaker) string {
-	v := typedBack(q, x, false)
+	return readBackWritten(p, typedBack(q, x, false), typedBack(q, x, true), q, percent, sp)
+}
+
+// readBackWritten is readBack with the value already written, plainly and
+// as a percentage: a judgement's values are one range (typedRange).
+func readBackWritten(p float64, plain, asPercent string, q workshop.Question, percent bool, sp speaker) string {
+	v := plain
 	if u := strings.TrimSpace(q.Units); u != "" {
 		// In brackets, as the form's labels and the picture's axis write
 		// them: units that name the quantity ("proportion of mains") do
@@ -270,7 +276,7 @@ func readBack(p, x float64, q workshop.Question, percent bool, sp speaker) strin
 	}
 	if percent {
 		// The expert typed percentages: speak in them.
-		v = typedBack(q, x, true)
+		v = asPercent
 	}
 	says := sp.pick("You are saying", "%s is saying")
 	switch {
@@ -871,8 +877,8 @@ func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) histor
 	}
 	if fit, err := s.fits.fit(q, rv); err == nil {
 		pct := rv.Answer.Percent && q.Format != workshop.FormatChips
-		in := func(x float64) string { return typedBack(q, x, pct) }
-		h.Fitted = "median " + in(fit.Percentiles[1]) + "; 90% between " + in(fit.Percentiles[0]) + " and " + in(fit.Percentiles[2])
+		ps := typedRange(q, pct, fit.Percentiles[:]...)
+		h.Fitted = "median " + ps[1] + "; 90% between " + ps[0] + " and " + ps[2]
 		h.Params = "Beta(" + chart.FormatShape(fit.Dist.Alpha) + ", " + chart.FormatShape(fit.Dist.Beta.Beta) + ")"
 	}
 	return h
@@ -885,8 +891,8 @@ func (s *Server) newHistoryRow(q workshop.Question, rv workshop.Revision) histor
 func answerInWords(q workshop.Question, a workshop.Answer) string {
 	switch q.Format {
 	case workshop.FormatInterval:
-		return "between " + typedBack(q, a.Lowest, a.Percent) + " and " + typedBack(q, a.Highest, a.Percent) + ", " +
-			confidenceBack(a.Confidence) + " sure; best estimate " + typedBack(q, a.Best, a.Percent)
+		v := typedRange(q, a.Percent, a.Lowest, a.Highest, a.Best)
+		return "between " + v[0] + " and " + v[1] + ", " + confidenceBack(a.Confidence) + " sure; best estimate " + v[2]
 	case workshop.FormatChips:
 		var parts []string
 		for _, c := range a.Counts {
@@ -895,7 +901,8 @@ func answerInWords(q workshop.Question, a workshop.Answer) string {
 		return "chips in each bin, lowest first: " + strings.Join(parts, ", ")
 	}
 	var parts []string
-	for i, x := range a.Values {
+	values := typedRange(q, a.Percent, a.Values...)
+	for i := range a.Values {
 		p := "?"
 		if i < len(q.Probs) {
 			p = chart.FormatPercent(q.Probs[i])
@@ -903,7 +910,7 @@ func answerInWords(q workshop.Question, a workshop.Answer) string {
 		if i == 0 {
 			p += " chance"
 		}
-		parts = append(parts, p+" below "+typedBack(q, x, a.Percent))
+		parts = append(parts, p+" below "+values[i])
 	}
 	return strings.Join(parts, "; ")
 }
@@ -918,20 +925,21 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 	var parts []string
 	switch q.Format {
 	case workshop.FormatInterval:
-		parts = append(parts, "lowest"+nbsp+typedBack(q, a.Lowest, a.Percent), "highest"+nbsp+typedBack(q, a.Highest, a.Percent),
-			"best"+nbsp+typedBack(q, a.Best, a.Percent), "sure"+nbsp+confidenceBack(a.Confidence))
+		v := typedRange(q, a.Percent, a.Lowest, a.Highest, a.Best)
+		parts = append(parts, "lowest"+nbsp+v[0], "highest"+nbsp+v[1], "best"+nbsp+v[2], "sure"+nbsp+confidenceBack(a.Confidence))
 	case workshop.FormatChips:
 		for _, c := range a.Counts {
 			parts = append(parts, strconv.Itoa(c))
 		}
 		return "chips " + strings.Join(parts, ", ")
 	default:
-		for i, x := range a.Values {
+		values := typedRange(q, a.Percent, a.Values...)
+		for i := range a.Values {
 			p := "?"
 			if i < len(q.Probs) {
 				p = chart.FormatPercent(q.Probs[i])
 			}
-			parts = append(parts, p+":"+nbsp+typedBack(q, x, a.Percent))
+			parts = append(parts, p+":"+nbsp+values[i])
 		}
 	}
 	return strings.Join(parts, "; ")
@@ -958,6 +966,8 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 	if line := intervalReading(q, fit, sp); line != "" {
 		p.ReadBacks = append(p.ReadBacks, line)
 	}
+	// The stated values are one range, read back apart.
+	plain, asPercent := typedRange(q, false, fit.Stated...), typedRange(q, true, fit.Stated...)
 	for i := range fit.Probs {
 		if i >= len(fit.Stated) {
 			break
@@ -968,7 +978,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 			p.Fit.Fitted = append(p.Fit.Fitted, fit.Fitted[i])
 			p.Fit.FittedProbs = append(p.Fit.FittedProbs, pr+fit.ProbErrors[i])
 		}
-		line := readBack(pr, x, q, percent && q.Format != workshop.FormatChips, sp)
+		line := readBackWritten(pr, plain[i], asPercent[i], q, percent && q.Format != workshop.FormatChips, sp)
 		if i < len(fit.ProbErrors) {
 			line += " " + fittedBack(pr, pr+fit.ProbErrors[i])
 		}
@@ -976,9 +986,10 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 	}
 	// α and β are named with what they are, for an expert who is not a
 	// statistician; the picture's table and the history use them bare.
+	ps := typedRange(q, percent, fit.Percentiles[:]...)
 	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted curve puts the middle 90%% of the chance between %s and %s, with median %s. "+
 		"It is %s, a Beta distribution: α and β are the two numbers that set its shape.",
-		typedBack(q, fit.Percentiles[0], percent), typedBack(q, fit.Percentiles[2], percent), typedBack(q, fit.Percentiles[1], percent), p.Params))
+		ps[0], ps[2], ps[1], p.Params))
 	p.Warnings = expertWarnings(q, fit, percent, sp)
 	return p
 }

@@ -119,6 +119,12 @@ func (r quickResult) weightWords() string {
 // the picture's "0.00004089".
 func pointIn(d elicit.ScaledBeta, x float64) string { return fvIn(x, d.Lower, d.Upper) }
 
+// percentilesIn writes the prior d's 5%, 50% and 95% points as pointIn
+// does, one range, apart (pointsIn).
+func percentilesIn(d elicit.ScaledBeta) string {
+	return strings.Join(pointsIn(d.Lower, d.Upper, d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)), ", ")
+}
+
 // alphaBetaHint says what α + β tells on a scale other than [0, 1].
 const alphaBetaHint = "α + β says how concentrated the prior is: the larger, the narrower. " +
 	"It is not a number of trials here; that reading holds only for a proportion on 0 to 1."
