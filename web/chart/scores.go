@@ -55,10 +55,15 @@ const (
 	// mapMaxR/√2.
 	mapMaxR = 19.0
 	mapMinR = 5.0
-	// Labels are placed with this width per character and line height:
-	// the widest the label font is drawn (15px), so they cannot overlap.
-	mapCharW = 8.6
-	mapLineH = 19.0
+	// Labels are placed with their widths as DejaVu Sans draws them
+	// (labelEm) at the sizes static/chart.css sets, the larger where it
+	// sets two, so they cannot overlap: the experts' and the pool's
+	// (bold) at 14px, 15px on a phone, the cut-off's at 14px bold, the
+	// shaded region's note at 13px; and with this line height.
+	mapLabelPx = 15.0
+	mapCutPx   = 14.0
+	mapNotePx  = 13.0
+	mapLineH   = 19.0
 	// mapLowest is the smallest decade drawn; lower scores sit on the
 	// left edge and their labels say so.
 	mapLowest = -12.0
@@ -239,7 +244,8 @@ func newScoresModel(v ScoresView) scoresModel {
 		m.Cut.Label = "cut-off α = 0: no expert is left out"
 	}
 	m.Cut.LabelX, m.Cut.Anchor = coord(cx), "middle"
-	half := float64(len(m.Cut.Label)) * mapCharW / 2
+	cutW := labelEm(m.Cut.Label, true) * mapCutPx
+	half := cutW / 2
 	switch {
 	case cx-half < 4:
 		m.Cut.LabelX, m.Cut.Anchor = coord(math.Max(cx, 4)), "start"
@@ -254,7 +260,6 @@ func newScoresModel(v ScoresView) scoresModel {
 	}
 	sort.SliceStable(order, func(a, b int) bool { return rows[order[a]].Weight > rows[order[b]].Weight })
 	// The cut-off's label and the shaded region's are placed first.
-	cutW := float64(len([]rune(m.Cut.Label))) * mapCharW
 	cutBox := labelBox{x0: cx - cutW/2, x1: cx + cutW/2, y0: f.Top - 10 - mapLineH + 4, y1: f.Top - 6}
 	switch m.Cut.Anchor {
 	case "start":
@@ -285,9 +290,10 @@ func newScoresModel(v ScoresView) scoresModel {
 	// upper left where a disc lies under the lower, or nowhere (the key
 	// names the shading too).
 	const shadeText = "weight 0"
-	if m.Cut.Shade && cx-f.Left > float64(len(shadeText))*mapCharW+12 {
+	shadeW := labelEm(shadeText, false) * mapNotePx
+	if m.Cut.Shade && cx-f.Left > shadeW+12 {
 		for _, baseline := range []float64{f.bottom() - 10, f.Top + mapLineH} {
-			box := labelBox{x0: f.Left + 8, x1: f.Left + 8 + float64(len(shadeText))*mapCharW, y0: baseline - mapLineH + 4, y1: baseline + 10}
+			box := labelBox{x0: f.Left + 8, x1: f.Left + 8 + shadeW, y0: baseline - mapLineH + 4, y1: baseline + 10}
 			clear := true
 			for _, d := range discs {
 				clear = clear && !box.overlaps(labelBox{x0: d.x - d.rad, x1: d.x + d.rad, y0: d.y - d.rad, y1: d.y + d.rad})
@@ -318,7 +324,7 @@ func newScoresModel(v ScoresView) scoresModel {
 				clear = math.Max(clear, c.rad+math.Hypot(c.x-x, c.y-y))
 			}
 		}
-		b := placeLabel(d.Label, x, y, clear, f, placed)
+		b := placeLabel(d.Label, true, x, y, clear, f, placed)
 		placed = append(placed, b)
 		d.LabelX, d.LabelY, d.Anchor = coord(b.textX), coord(b.baseline), b.anchor
 		m.Pool = d
@@ -330,7 +336,7 @@ func newScoresModel(v ScoresView) scoresModel {
 		if clipped {
 			label += " (calibration " + scoreText(r) + ")"
 		}
-		b := placeLabel(label, x, y, rad, f, placed)
+		b := placeLabel(label, false, x, y, rad, f, placed)
 		placed = append(placed, b)
 		p := mapPoint{X: coord(x), Y: coord(y), R: coord(rad), Weighted: r.Weight > 0, Label: label, Nudge: coord(y - f.py(r.Information)),
 			LabelX: coord(b.textX), LabelY: coord(b.baseline), Anchor: b.anchor,
@@ -482,9 +488,10 @@ func (a labelBox) overlaps(b labelBox) bool {
 
 // placeLabel puts a label beside the disc at (x, y) of radius r, to the
 // right when it fits inside the picture and to the left otherwise, moved
-// down (or up) in steps until it overlaps no label already placed.
-func placeLabel(text string, x, y, r float64, f frame, placed []labelBox) labelBox {
-	w := float64(len([]rune(text))) * mapCharW
+// down (or up) in steps until it overlaps no label already placed; bold
+// is the pool's label, drawn at weight 600.
+func placeLabel(text string, bold bool, x, y, r float64, f frame, placed []labelBox) labelBox {
+	w := labelEm(text, bold) * mapLabelPx
 	edge := mapLeft + mapWidth + mapRight - 2
 	right := x+r+6+w <= edge || (x-r-6-w < 2 && edge-x > x)
 	mk := func(dy float64) labelBox {

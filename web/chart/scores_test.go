@@ -74,7 +74,12 @@ func labelBoxes(t *testing.T, ns []node) []labelBox {
 		if n.Name != "text" || !(n.hasClass("map-label") || n.hasClass("map-cut-label")) {
 			continue
 		}
-		w := float64(len([]rune(n.Text))) * mapCharW
+		// As static/chart.css draws them: the experts' labels at 15px on
+		// a phone, the pool's bold, the cut-off's at 14px bold.
+		w := labelEm(n.Text, n.hasClass("map-label-pool")) * 15
+		if n.hasClass("map-cut-label") {
+			w = labelEm(n.Text, true) * 14
+		}
 		x, y := n.num(t, "x"), n.num(t, "y")
 		b := labelBox{y0: y - 14, y1: y + 4}
 		switch n.Attr["text-anchor"] {
@@ -320,7 +325,7 @@ func TestWeightMapKeepsNearlyAgreeingDiscsApart(t *testing.T) {
 		}
 		// Nor does the shaded region's "weight 0" lie over a disc moved up.
 		for _, n := range find(ns, "text", "map-note") {
-			note := labelBox{x0: n.num(t, "x"), x1: n.num(t, "x") + float64(len([]rune(n.Text)))*mapCharW, y0: n.num(t, "y") - 14, y1: n.num(t, "y") + 4}
+			note := labelBox{x0: n.num(t, "x"), x1: n.num(t, "x") + labelEm(n.Text, false)*13, y0: n.num(t, "y") - 14, y1: n.num(t, "y") + 4}
 			for i, d := range discs {
 				x, y, r := d.num(t, "cx"), d.num(t, "cy"), d.num(t, "r")
 				if note.overlaps(labelBox{x0: x - r, x1: x + r, y0: y - r, y1: y + r}) {
@@ -365,5 +370,35 @@ func TestWeightMapKeepsNearlyAgreeingDiscsApart(t *testing.T) {
 	}}))
 	if strings.Contains(html, "drawn apart") {
 		t.Error("discs far apart are said to be moved")
+	}
+}
+
+// TestWeightMapLabelsFitAsDrawn: the map placed its labels at an even
+// 8.6 units a character, which DejaVu Sans at 15px (a phone) exceeds for
+// digits (9.6), the percent sign (14.4) and capitals (up to 14.9): a
+// name of wide capitals with its weight, placed to the right of a disc
+// where that estimate said it fitted, ran off the picture's right edge,
+// and two such labels one above the other ran into each other. Every
+// label is now measured as labelBoxes measures it (labelEm).
+func TestWeightMapLabelsFitAsDrawn(t *testing.T) {
+	width := mapLeft + mapWidth + mapRight
+	for k := 0; k <= 60; k++ {
+		c := math.Pow(10, -12+12*float64(k)/60)
+		rows := []ScoreRow{
+			{Expert: "WMW MWMW-WMWM", Calibration: c, Information: 0.5, Weight: 0.5},
+			{Expert: "MWM WMWM-MWMW", Calibration: c, Information: 0.52, Weight: 0.5},
+		}
+		ns := parse(t, render(t, Scores(ScoresView{Alpha: 1e-13, Rows: rows})))
+		boxes := labelBoxes(t, ns)
+		for i, a := range boxes {
+			if a.x0 < 0 || a.x1 > width {
+				t.Errorf("calibration %.3g: label %d at [%.1f, %.1f] leaves the picture [0, %v]", c, i, a.x0, a.x1, width)
+			}
+			for j, b := range boxes[:i] {
+				if a.overlaps(b) {
+					t.Errorf("calibration %.3g: labels %d and %d overlap", c, j, i)
+				}
+			}
+		}
 	}
 }
