@@ -300,7 +300,7 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 			if errors.As(err, &ie) && ie.Rule == elicit.RuleLogScalePositive {
 				f.set("true_value", "must be above 0 while the question's information is scored on the log scale (set below)")
 			} else {
-				f.set("true_value", "must lie within the question's bounds, "+fv(q.Lower)+" to "+fv(q.Upper))
+				f.set("true_value", "must lie within the question's bounds, "+boundsText(q.Lower, q.Upper, " to "))
 			}
 		}
 	}
@@ -382,10 +382,11 @@ func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
 // both included, as an observed share can be 0 or 1; on the log scale
 // above 0.
 func truthHint(q workshop.Question) string {
+	lower, upper := fvBounds(q.Lower, q.Upper)
 	if q.LogScale {
-		return "Above " + fv(q.Lower) + " and at most " + fv(q.Upper) + " (the log scale needs it above 0)."
+		return "Above " + lower + " and at most " + upper + " (the log scale needs it above 0)."
 	}
-	return "From " + fv(q.Lower) + " to " + fv(q.Upper) + ", either bound included."
+	return "From " + lower + " to " + upper + ", either bound included."
 }
 
 // logScaleRefusal says why q cannot be scored on the log scale, in the

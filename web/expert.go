@@ -828,12 +828,13 @@ func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status i
 func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]string, reason string) expertQuestionView {
 	q := sc.question
 	base := expertBase(r)
+	lower, upper := fvBounds(q.Lower, q.Upper)
 	v := expertQuestionView{
 		Base: base, Action: base + "/q/" + strconv.FormatInt(q.ID, 10),
 		Title: sc.workshop.Title, Round: sc.workshop.Round, Open: sc.workshop.Open, Finished: sc.workshop.Archived,
 		Question: expertQuestionInfo{
 			ID: q.ID, Position: q.Position, Wording: q.Wording, Quantity: q.Quantity, Units: q.Units,
-			Lower: chart.FormatValue(q.Lower), Upper: chart.FormatValue(q.Upper),
+			Lower: lower, Upper: upper,
 			Format: q.Format,
 		},
 		Form: newAnswerForm(q, typed, speaker{}),

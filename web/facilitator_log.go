@@ -465,7 +465,7 @@ func (w eventWriter) weights(d eventDetail) string {
 func betaLabel(d elicit.ScaledBeta) string {
 	s := "Beta(" + sv(d.Alpha) + ", " + sv(d.Beta.Beta) + ")"
 	if d.Lower != 0 || d.Upper != 1 {
-		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
+		s += " on [" + boundsText(d.Lower, d.Upper, ", ") + "]"
 	}
 	return s
 }

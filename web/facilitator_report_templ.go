@@ -2028,7 +2028,7 @@ func agreedCount(qs []record.Question) string {
 func priorLabel(d elicit.ScaledBeta) string {
 	s := "Beta(" + sv(d.Alpha) + ", " + sv(d.Beta.Beta) + ")"
 	if d.Lower != 0 || d.Upper != 1 {
-		s += " on [" + fv(d.Lower) + ", " + fv(d.Upper) + "]"
+		s += " on [" + boundsText(d.Lower, d.Upper, ", ") + "]"
 	}
 	return s
 }

@@ -136,3 +136,20 @@ func TestAnExpertsNarrowRangeReadsApart(t *testing.T) {
 	apart(t, "a proportion's values read as", plain...)
 	apart(t, "a proportion's values read as percentages", pct...)
 }
+
+// A question's bounds are a range too: the rules take bounds as close as
+// 1 and 1.00001, which four figures wrote "1 to 1".
+func TestBoundsReadApart(t *testing.T) {
+	q := workshop.Question{ID: 1, Position: 1, Quantity: "invented gauge reading", Lower: 1, Upper: 1.00001, Calibration: true}
+	for what, got := range map[string]string{
+		"the true value's hint":     truthHint(q),
+		"a prior's label":           priorLabel(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 2, Beta: 3}, Lower: 1, Upper: 1.00001}),
+		"the question's summary":    renderText(t, questionSummary(q)),
+		"the log's prior":           betaLabel(elicit.ScaledBeta{Beta: elicit.Beta{Alpha: 2, Beta: 3}, Lower: 1, Upper: 1.00001}),
+		"the bounds joined by text": boundsText(q.Lower, q.Upper, " to "),
+	} {
+		if !strings.Contains(got, "1.00001") {
+			t.Errorf("%s writes the upper bound 1.00001 as the lower: %q", what, got)
+		}
+	}
+}
