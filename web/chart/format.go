@@ -168,41 +168,59 @@ func formatWithin(x, lower, upper float64, percent bool, min int) string {
 // more as it takes for values that differ to read apart (distinctFigures):
 // a fit on [1000, 2000] as narrow as the accuracy envelope allows wrote
 // its percentiles 1229.78, 1230.00 and 1230.22 all as "1230", one value.
+// Two values count as one when they differ by no more than rangeNoise of
+// the nearer one's distance to its nearer bound: computed values carry
+// that much rounding (a two-point fit's median, 0.04000000000000003,
+// beside the true value 0.04 was written to 17 figures on the projector's
+// median strip), while typed values, which the rules keep a millionth of
+// that distance apart (elicit.RuleValuesTooClose), always read apart.
 func FormatRangeWithin(xs []float64, lower, upper float64, percent bool) []string {
-	return distinctFigures(xs, func(x float64, min int) string { return formatWithin(x, lower, upper, percent, min) })
+	same := func(a, b float64) bool {
+		d := math.Min(math.Min(a-lower, upper-a), math.Min(b-lower, upper-b))
+		return d > 0 && math.Abs(a-b) <= rangeNoise*d
+	}
+	return distinctFigures(xs, func(x float64, min int) string { return formatWithin(x, lower, upper, percent, min) }, same)
 }
+
+// rangeNoise is the share of a value's distance to its nearer bound
+// within which FormatRangeWithin takes two values for one: a thousandth
+// of the least gap the rules allow between typed values (a millionth),
+// and about the accuracy DEVELOPERS.md's envelope gives a well-conditioned
+// Beta quantile (1e-9 relative, in its smaller tail).
+const rangeNoise = 1e-9
 
 // FormatRange writes the values xs of one range as FormatValue does, with
 // as many more figures as it takes for values that differ to read apart
 // (distinctFigures).
 func FormatRange(xs []float64) []string {
-	return distinctFigures(xs, formatSig)
+	return distinctFigures(xs, formatSig, func(a, b float64) bool { return a == b })
 }
 
 // distinctFigures writes xs by write(x, min), min the least number of
 // significant figures, from four up until values that differ are written
-// differently (at most 17, where every double reads as itself). The
-// figures are the same for the whole range, so equal values stay written
-// alike; the check is on the text as written, so a value that takes more
-// figures of its own (to keep off a bound) is held to it too.
-func distinctFigures(xs []float64, write func(x float64, min int) string) []string {
+// differently (at most 17, where every double reads as itself); same says
+// which values count as one. The figures are the same for the whole
+// range, so equal values stay written alike; the check is on the text as
+// written, so a value that takes more figures of its own (to keep off a
+// bound) is held to it too.
+func distinctFigures(xs []float64, write func(x float64, min int) string, same func(a, b float64) bool) []string {
 	out := make([]string, len(xs))
 	for min := 4; ; min++ {
 		for i, x := range xs {
 			out[i] = write(x, min)
 		}
-		if min >= 17 || readApart(xs, out) {
+		if min >= 17 || readApart(xs, out, same) {
 			return out
 		}
 	}
 }
 
 // readApart says whether texts, the values xs as written, give every two
-// values that differ texts that differ.
-func readApart(xs []float64, texts []string) bool {
+// values that differ (not the same, by same) texts that differ.
+func readApart(xs []float64, texts []string, same func(a, b float64) bool) bool {
 	for i := range xs {
 		for j := i + 1; j < len(xs); j++ {
-			if texts[i] == texts[j] && xs[i] != xs[j] && !math.IsNaN(xs[i]) && !math.IsNaN(xs[j]) {
+			if texts[i] == texts[j] && !same(xs[i], xs[j]) && !math.IsNaN(xs[i]) && !math.IsNaN(xs[j]) {
 				return false
 			}
 		}

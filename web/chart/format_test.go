@@ -270,3 +270,40 @@ func TestFormatWithin(t *testing.T) {
 		}
 	}
 }
+
+// Values of one range that differ by rounding alone read as one: a
+// two-point fit's median, 0.04000000000000003, beside the true value 0.04
+// on the median strip was written to 17 figures; typed values the rules
+// keep apart (a millionth of their distance to the nearer bound) still
+// read apart, and bounds, written by FormatRange, are compared exactly
+// (worked by hand).
+func TestRangeRoundingReadsAsOne(t *testing.T) {
+	for _, c := range []struct {
+		xs   []float64
+		want []string
+	}{
+		{[]float64{0.04, 0.04000000000000003}, []string{"0.04", "0.04"}},
+		{[]float64{1230, 1230 + 1e-7}, []string{"1230", "1230"}},
+		// 1e-13 apart, a millionth of the distance to 1 is 1e-13.
+		{[]float64{0.9999999, 0.9999999 + 1.1e-13}, []string{"0.9999999", "0.9999999000001"}},
+		{[]float64{1e-8, 1.000001e-8}, []string{"0.00000001", "0.00000001000001"}},
+	} {
+		lower, upper := 0.0, 1.0
+		if c.xs[0] > 1 {
+			lower, upper = 1000, 2000
+		}
+		got := FormatRangeWithin(c.xs, lower, upper, false)
+		if strings.Join(got, " ") != strings.Join(c.want, " ") {
+			t.Errorf("FormatRangeWithin(%v) = %q, want %q", c.xs, got, c.want)
+		}
+	}
+	if got := FormatRange([]float64{1, 1 + 1e-12}); got[0] == got[1] {
+		t.Errorf("bounds 1 and 1+1e-12 written alike: %q", got)
+	}
+	v := MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1, Medians: []float64{0.04000000000000003, 0.05, 0.07}, Labels: []string{"A", "B", "C"}}
+	truth := 0.04
+	v.Truth = &truth
+	if d := newMedianStrip(v).Desc; strings.Contains(d, "0.0400000") || !strings.Contains(d, "A 0.04,") {
+		t.Errorf("median strip: %s", d)
+	}
+}
