@@ -543,3 +543,29 @@ func TestRevealedUnansweredQuestionOffersNothingToRead(t *testing.T) {
 	}
 	t.Fatal("the demo has no calibration question an expert left unanswered")
 }
+
+// A question whose true value has been shown is final while the round
+// goes on for the others: its page said "Round 1 is open: you can enter
+// and revise your answers" above "answers to this question can no longer
+// be added" (or "your answer below is final"). It says the round is open
+// for the expert's other questions, answered or not; the other questions
+// still say they can be revised.
+func TestFinalQuestionInAnOpenRoundSaysWhatStaysOpen(t *testing.T) {
+	g := newExpertRig(t, "Ottilie Marsh", "Pavel Ruskin")
+	if r, _ := g.post(g.qpath(0, g.qcal)+"/save", quantiles("0.1", "0.2", "0.4")); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d", r.StatusCode)
+	}
+	if err := g.db.SetTrueValue(context.Background(), g.qcal.ID, hiddenTruth, true, "shown (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	const open, final = "you can enter and revise your answers", "Round 1 is open for your other questions; answers to this one are final."
+	for i, whose := range []string{"answered", "unanswered"} {
+		_, page := g.get(g.qpath(i, g.qcal))
+		if strings.Contains(page, open) || !strings.Contains(page, final) {
+			t.Errorf("the %s final question's page does not say what stays open:\n%s", whose, page)
+		}
+	}
+	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, "Round 1 is open: "+open) {
+		t.Errorf("an open question's page does not say it can be revised:\n%s", page)
+	}
+}
