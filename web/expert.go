@@ -1141,9 +1141,13 @@ func (v expertQuestionView) spreadIntro() string {
 
 // feedbackUse says what the feedback is for: to reconsider an answer the
 // expert has given, or, before they have given one, to settle their own
-// judgement first.
+// judgement first. Once the workshop is archived it is for neither:
+// nothing more can be saved, and the page said "Once you save, your curve
+// appears here beside them" under "nothing more can be saved".
 func (v expertQuestionView) feedbackUse() string {
 	switch {
+	case v.Finished && !v.Frozen:
+		return ""
 	case v.OwnCurve:
 		return " Use it to reconsider your own judgement; you need not agree."
 	case len(v.History) > 0:

@@ -569,3 +569,41 @@ func TestFinalQuestionInAnOpenRoundSaysWhatStaysOpen(t *testing.T) {
 		t.Errorf("an open question's page does not say it can be revised:\n%s", page)
 	}
 }
+
+// In an archived workshop the other experts' curves are there to read,
+// not to act on: the page said "Once you save, your curve appears here
+// beside them" (or "Use it to reconsider your own judgement") under "The
+// facilitator has closed this workshop … nothing more can be saved".
+func TestArchivedFeedbackDoesNotInviteASave(t *testing.T) {
+	g := newExpertRig(t, "Ottilie Marsh", "Pavel Ruskin", "Quinn Adler")
+	ctx := context.Background()
+	for i := range 2 {
+		if r, _ := g.post(g.qpath(i, g.q)+"/save", quantiles("0.1", "0.2", "0.4")); r.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save: %d", r.StatusCode)
+		}
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.db.SetRound(ctx, g.ws.ID, 2, true, "second round (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	_, page := g.get(g.qpath(2, g.q))
+	if !strings.Contains(page, "Once you save, your curve appears here") {
+		t.Fatalf("in an open round the panel does not invite a first answer:\n%s", page)
+	}
+	if err := g.db.SetArchived(ctx, g.ws.ID, true, "finished (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	for i, who := range []string{"an expert who answered", "an expert who did not"} {
+		_, page := g.get(g.qpath(i*2, g.q))
+		if !strings.Contains(page, "What the other experts said") {
+			t.Fatalf("%s: no panel in the archived workshop:\n%s", who, page)
+		}
+		for _, wrong := range []string{"Once you save", "Use it to reconsider", "it is worth settling your own judgement"} {
+			if strings.Contains(page, wrong) {
+				t.Errorf("%s: the archived workshop's panel says %q", who, wrong)
+			}
+		}
+	}
+}
