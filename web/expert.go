@@ -392,14 +392,14 @@ func (v expertQuestionView) saving() saving {
 }
 
 // asksForSave says whether the form shows the parts only a save uses:
-// on the facilitator's entry page, how the judgement reached them and
-// the expert's reasoning. For a revoked expert and in an archived
-// workshop nothing can be entered, so the page asks for neither; the
-// values and Show the fit stay, as the preview saves nothing.
+// the reasoning, and on the facilitator's entry page how the judgement
+// reached them. For a revoked expert and in an archived workshop nothing
+// can be entered, so the page asks for neither (the expert's own page
+// asked an archived workshop's expert for reasoning that "later in the
+// workshop the other experts may see"); the values and Show the fit
+// stay, as the preview saves nothing. In a closed round the reasoning
+// stays, to be saved with the values when the next round opens.
 func (v expertQuestionView) asksForSave() bool {
-	if v.OnBehalf == nil {
-		return true
-	}
 	s := v.saving()
 	return s != savingRevoked && s != savingFinished
 }

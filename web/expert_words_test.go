@@ -607,3 +607,29 @@ func TestArchivedFeedbackDoesNotInviteASave(t *testing.T) {
 		}
 	}
 }
+
+// An archived workshop's question page asks for no reasoning: the box
+// said "Later in the workshop the other experts may see it" under "nothing
+// more can be saved". A closed round keeps it.
+func TestArchivedWorkshopAsksForNoReasoning(t *testing.T) {
+	g := newExpertRig(t)
+	ctx := context.Background()
+	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, ""); err != nil {
+		t.Fatal(err)
+	}
+	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, `id="f-reason"`) {
+		t.Errorf("a closed round's page asks for no reasoning:\n%s", page)
+	}
+	if err := g.db.SetArchived(ctx, g.ws.ID, true, "finished (invented)"); err != nil {
+		t.Fatal(err)
+	}
+	for _, q := range []workshop.Question{g.q, g.qi, g.qc} {
+		_, page := g.get(g.qpath(0, q))
+		if strings.Contains(page, `id="f-reason"`) || strings.Contains(page, "Later in the workshop") {
+			t.Errorf("%s: the archived workshop's page asks for reasoning", q.Quantity)
+		}
+		if !strings.Contains(page, "Show the fit") {
+			t.Errorf("%s: the archived workshop's page no longer lets the expert try a fit", q.Quantity)
+		}
+	}
+}
