@@ -188,6 +188,15 @@ func fits(t *testing.T, p *person, where string, width int64) {
 			const gap = label.getBoundingClientRect().top - above.getBoundingClientRect().bottom;
 			if (gap < 9) out.push(label.textContent.trim() + " (" + gap.toFixed(1) + " px)");
 		}
+		// A refused save's "Nothing was saved" stands apart from the first
+		// value's label under it, so that it does not read as that value's
+		// own message.
+		for (const sum of document.querySelectorAll(".answer-form .form-error-summary")) {
+			const next = sum.nextElementSibling, label = next && next.querySelector("label, legend");
+			if (!label || !sum.getClientRects().length || !label.getClientRects().length) continue;
+			const gap = label.getBoundingClientRect().top - sum.getBoundingClientRect().bottom;
+			if (gap < 9) out.push(label.textContent.trim() + " under “" + sum.textContent.trim() + "” (" + gap.toFixed(1) + " px)");
+		}
 		return out;
 	})()`); len(close) > 0 {
 		t.Errorf("%s at %d px: a label sits against the box above it: %q", where, width, close)
