@@ -219,6 +219,13 @@ func fits(t *testing.T, p *person, where string, width int64) {
 	})()`); len(small) > 0 {
 		t.Errorf("%s at %d px: the chips board is too cramped to use: %q", where, width, small)
 	}
+	// On a phone what an expert taps on the answer form is at least 44 px
+	// each way (a radio button through its label, which selects it).
+	if width < 600 {
+		if small := eval[[]string](p, "the answer form's targets", `Array.from(document.querySelectorAll(".answer-form input:not([type=hidden]):not([type=radio]), .answer-form select, .answer-form button, .answer-form .field-check label, .banner-saved .button")).filter(e => e.getClientRects().length).filter(e => { const r = e.getBoundingClientRect(); return r.width < 43.5 || r.height < 43.5; }).slice(0, 6).map(e => (e.getAttribute("aria-label") || e.textContent.trim() || e.name || e.tagName).slice(0, 40) + " " + Math.round(e.getBoundingClientRect().width) + "×" + Math.round(e.getBoundingClientRect().height) + " px")`); len(small) > 0 {
+			t.Errorf("%s at %d px: targets on the answer form under 44 px: %q", where, width, small)
+		}
+	}
 	problems := eval[[]string](p, "pictures' boxes", `(() => {
 		const out = [];
 		for (const svg of document.querySelectorAll("svg.chart-svg")) {
