@@ -172,6 +172,11 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 	between := "between " + lo + " and " + hi
 	if q.IsProportion() {
 		between = "between 0 and 1 (0% and 100%)"
+		if f.Value("unit") == unitPercent {
+			// The expert chose percentages: "between 0 and 1" asked them
+			// for a proportion the form would read as 1% at most.
+			between = "between 0% and 100%"
+		}
 	}
 	switch ie.Rule {
 	case elicit.RuleRequired:

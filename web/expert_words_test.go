@@ -633,3 +633,21 @@ func TestArchivedWorkshopAsksForNoReasoning(t *testing.T) {
 		}
 	}
 }
+
+// An expert who chose percentages is told the bounds in percentages: a
+// value past them said "Must be between 0 and 1 (0% and 100%)", which
+// asks for a proportion the form reads as a percentage (0.9 as 0.9%).
+func TestBoundsSaidInTheExpertsUnit(t *testing.T) {
+	g := newExpertRig(t)
+	form := quantiles("2", "5", "200")
+	form.Set("unit", "percent")
+	_, body := g.post(g.qpath(0, g.q)+"/save", form)
+	if msg := shownError(body, "f-values-2"); msg != "Must be between 0% and 100%; you typed 200." {
+		t.Errorf("200 typed as a percentage: %q", msg)
+	}
+	// As proportions, both are said.
+	_, body = g.post(g.qpath(0, g.q)+"/save", quantiles("0.02", "0.05", "1.4"))
+	if msg := shownError(body, "f-values-2"); !strings.HasPrefix(msg, "Must be between 0 and 1 (0% and 100%); you typed 1.4.") {
+		t.Errorf("1.4 typed as a proportion: %q", msg)
+	}
+}
