@@ -139,6 +139,10 @@ type expertQuestionInfo struct {
 	Lower    string
 	Upper    string
 	Format   workshop.AnswerFormat
+	// InPercent follows the bounds of a question whose values may be
+	// typed as percentages, " (0% and 100%)": an expert who chose
+	// percentages read "between 0 and 1" above boxes that took 5 for 5%.
+	InPercent string
 	// Revealed is the true value of a calibration question, set only once
 	// the facilitator has revealed it. Until then nothing on an expert's
 	// page says which questions are calibration questions.
@@ -840,6 +844,9 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 		Form: newAnswerForm(q, typed, speaker{}),
 	}
 	v.Form.Reason = reason
+	if q.ValuesInPercent() {
+		v.Question.InPercent = " (0% and 100%)"
+	}
 	// A calibration question is marked, and its true value shown, only
 	// once the facilitator has revealed it; from then on the expert's last
 	// answer is final.

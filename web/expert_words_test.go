@@ -651,3 +651,24 @@ func TestBoundsSaidInTheExpertsUnit(t *testing.T) {
 		t.Errorf("1.4 typed as a proportion: %q", msg)
 	}
 }
+
+// A question whose values may be typed as percentages gives its bounds in
+// both: an expert who chose percentages read "Possible values: between 0
+// and 1" above boxes that take 5 for 5%. Chips, placed not typed, and
+// other bounds keep their plain range.
+func TestPossibleValuesInBothUnits(t *testing.T) {
+	g := newExpertRig(t)
+	for _, c := range []struct {
+		q    workshop.Question
+		want string
+	}{
+		{g.q, "between 0 and 1 (0% and 100%)</dd>"},
+		{g.qi, "between 0 and 1 (0% and 100%)</dd>"},
+		{g.qc, "between 0 and 1</dd>"},
+		{g.qs, "between 10 and 50</dd>"},
+	} {
+		if _, page := g.get(g.qpath(0, c.q)); !strings.Contains(page, c.want) {
+			t.Errorf("%s: the possible values do not read %q", c.q.Quantity, c.want)
+		}
+	}
+}
