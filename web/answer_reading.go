@@ -282,17 +282,12 @@ func typedBack(q workshop.Question, v float64, percent bool) string {
 	return chart.FormatWithin(v, q.Lower, q.Upper, percent)
 }
 
-// fittedAsTyped writes a fit's value (its 5%, 50% or 95% point) beside
-// the answer it was fitted to, in that answer's terms: as a percentage
-// for an answer typed in percentages, as the expert's own history writes
-// it, so that "95%: 9%" does not stand beside a fitted 0.07222.
-func fittedAsTyped(q workshop.Question, x float64, percent bool) string {
-	return typedBack(q, x, percent && q.ValuesInPercent())
-}
-
-// fittedRangeAsTyped writes a fit's 5%, 50% and 95% points as
-// fittedAsTyped does, as one range, each as far as it takes to read apart
-// from the others (chart.FormatRangeWithin).
+// fittedRangeAsTyped writes a fit's 5%, 50% and 95% points beside the
+// answer they were fitted to, in that answer's terms: as percentages for
+// an answer typed in percentages, as the expert's own history writes
+// them, so that "95%: 9%" does not stand beside a fitted 0.07222; and as
+// one range, each as far as it takes to read apart from the others
+// (chart.FormatRangeWithin).
 func fittedRangeAsTyped(q workshop.Question, percent bool, xs ...float64) []string {
 	return typedRange(q, percent && q.ValuesInPercent(), xs...)
 }
