@@ -318,9 +318,13 @@ func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) ans
 		f.Bins = append(f.Bins, chipBin{From: chart.FormatValue(q.BinEdges[i]), To: chart.FormatValue(q.BinEdges[i+1])})
 	}
 	add := func(name, label, hint, suffix string) {
+		value := typed[name]
+		if suffix == "%" {
+			value, suffix = besidePercentSign(q, name, value)
+		}
 		f.Fields = append(f.Fields, formField{
 			Name: name, ID: "f-" + strings.NewReplacer("[", "-", "]", "").Replace(name),
-			Label: label, Hint: hint, Value: typed[name], Suffix: suffix,
+			Label: label, Hint: hint, Value: value, Suffix: suffix,
 		})
 	}
 	units := ""
@@ -354,6 +358,36 @@ func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) ans
 		}
 	}
 	return f
+}
+
+// besidePercentSign writes a typed value back into a box that a "%"
+// stands beside (a value under the percentage choice, the confidence):
+// "9%" as typed read "9% %" there. The value's own sign is left out when
+// the box reads the rest the same, as it does any value of a percentage
+// box but a confidence of 1% or less ("0.8%" is 0.8%, while "0.8" is
+// refused as a likely 80%); otherwise the value keeps its sign and the
+// box shows none beside it. It returns the value and the sign to show.
+func besidePercentSign(q workshop.Question, name, typed string) (string, string) {
+	s := strings.TrimSpace(typed)
+	rest, signed := strings.CutSuffix(s, "%")
+	if !signed {
+		return typed, "%"
+	}
+	rest = strings.TrimSpace(rest)
+	read := func(v string) (float64, error) {
+		if name == "confidence" {
+			return workshop.ParseConfidence(v)
+		}
+		x, _, err := workshop.ParseAnswerNumber(name, v, q, true)
+		return x, err
+	}
+	a, errA := read(s)
+	b, errB := read(rest)
+	same := (errA == nil && errB == nil && a == b) || (errA != nil && errB != nil)
+	if rest == "" || strings.HasSuffix(rest, "%") || !same {
+		return typed, ""
+	}
+	return rest, "%"
 }
 
 // previewInviteText begins previewInvite's sentence as HTML: "Place your
