@@ -40,6 +40,31 @@ type expertHomeView struct {
 	Open      bool
 	Finished  bool // the workshop is archived: no next round
 	Questions []expertQuestionItem
+	// Held counts the questions whose other experts' answers are held
+	// back from round 2 until their true value is shown
+	// (workshop.Question.PanelHeld); which ones is not said here.
+	Held int
+}
+
+// roundNext says what a later round asks of an expert: the demo's round-2
+// home said only that the round was open, beside grey tags reading
+// "answered in an earlier round", and left them to wonder whether every
+// answer had to be given again. It promises the other experts' answers
+// only where the question pages show them: "on each question's page you
+// can now read what the other experts said" was untrue of a question
+// whose panel is held back until its true value is shown.
+func (v expertHomeView) roundNext() string {
+	said := "what the other experts said in round " + strconv.Itoa(v.Round-1) + ", without their names"
+	switch {
+	case v.Held == 0:
+		return "On each question's page you can now read " + said + ". " +
+			"Revise your answer if it changes your mind; an answer you leave as it is stays your judgement."
+	case v.Held < len(v.Questions):
+		return "On each question's page you can now read " + said + ", except where the page says their answers stay hidden until the question's true value is shown. " +
+			"Revise your answer if it changes your mind; an answer you leave as it is stays your judgement."
+	}
+	return "The other experts' answers to these questions stay hidden until the facilitator shows their true values, so that every answer is each expert's own judgement. " +
+		"You can revise your answers while the round is open; an answer you leave as it is stays your judgement."
 }
 
 type expertQuestionItem struct {
@@ -613,6 +638,9 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		it := expertQuestionItem{
 			Href: base + "/q/" + strconv.FormatInt(q.ID, 10), Position: q.Position,
 			Wording: q.Wording, Quantity: q.Quantity, Units: q.Units, Revealed: q.Frozen(),
+		}
+		if q.PanelHeld() {
+			v.Held++
 		}
 		for _, rv := range revs {
 			if rv.ExpertID != e.ID || rv.QuestionID != q.ID {
