@@ -497,6 +497,21 @@ func previewInviteEnd(s saving, whose string) string {
 	return ". Saving is closed for now: nothing tried here is kept."
 }
 
+// closedNotSaved answers a save in a closed round. What was sent stays on
+// the page, where the fit can be tried, but nothing done there is kept:
+// "Your values are kept below" stood above chips that could still be
+// moved, and moving them kept nothing. Chips are placed on a board, not
+// typed, and the sentence says so.
+func closedNotSaved(round int, format workshop.AnswerFormat) string {
+	lead := "Round " + strconv.Itoa(round) + " is closed, so "
+	if format == workshop.FormatChips {
+		return lead + "your chips were not saved. They are still on the board below, where you can move them to try the fit, " +
+			"but nothing here is kept: note where they are if you want them when the facilitator opens the next round."
+	}
+	return lead + "your answer was not saved. Your values are still in the form below, where you can change them to try the fit, " +
+		"but nothing here is kept: note them down if you want them when the facilitator opens the next round."
+}
+
 // closedButton is the disabled save button's words when the form does
 // not save; whose as for previewInviteEnd.
 func closedButton(s saving, whose string) string {
@@ -816,7 +831,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		again(http.StatusUnprocessableEntity, "", "", &fit)
 		return
 	}
-	closed := "Round " + strconv.Itoa(sc.workshop.Round) + " is closed, so your answer was not saved. Your values are kept below; the facilitator will open the next round."
+	closed := closedNotSaved(sc.workshop.Round, sc.question.Format)
 	if sc.workshop.Archived {
 		closed = "The facilitator has closed this workshop, so your answer was not saved and nothing more can be."
 	}
