@@ -111,6 +111,9 @@ type expertQuestionView struct {
 	// OwnCurve says the panel includes the expert's own current curve;
 	// without it the feedback's words do not promise one.
 	OwnCurve bool
+	// OwnLetter says the expert is one of the panel fed back: their letter
+	// there is left out of their own page, where their curve is "You".
+	OwnLetter bool
 	// Reasons are the other experts' reasons from the feedback round,
 	// under the same labels as their curves; withheld ones are left out.
 	Reasons []feedbackReason
@@ -1164,6 +1167,8 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	for _, m := range fb.members {
 		if m.expertID != sc.expert.ID {
 			others = append(others, m)
+		} else {
+			v.OwnLetter = true
 		}
 	}
 	if len(others) == 0 {
@@ -1204,8 +1209,24 @@ func (v expertQuestionView) panelIntro() string {
 		with = " With them are your current curve and the equal-weight pool of the whole panel at that close."
 	}
 	return "The other experts' fitted curves as they stood when round " + strconv.Itoa(v.FeedbackRound) +
-		" closed, without names: the letters follow an order that says nothing about who they are." + with +
+		" closed, without names: the letters follow an order that says nothing about who they are." + v.lettering() + with +
 		poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
+}
+
+// lettering says whose the letters are. They are the room view's, so
+// that the room and the experts can speak of "Expert C" alike; an expert
+// who saw "Expert B, Expert C" and no "Expert A" could not tell that the
+// missing letter was their own, drawn as "You".
+func (v expertQuestionView) lettering() string {
+	switch {
+	case v.OwnCurve && v.OwnLetter:
+		return " Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room, so the letter missing here is yours."
+	case v.OwnCurve:
+		return " Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room."
+	case v.OwnLetter:
+		return " The letters are the other experts', as on the facilitator's screen in the room; the letter missing here is yours."
+	}
+	return ""
 }
 
 // poolMeaning says what the equal-weight pool is, in words for an expert
