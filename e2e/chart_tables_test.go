@@ -23,8 +23,9 @@ var exponent = regexp.MustCompile(`\d(?:\.\d+)?e[-+]?\d+`)
 // pictures (the fit's stated against fitted values, each curve's 5%,
 // median and 95%, the medians' spread) fit the screen at 360, 390 and
 // 1366 px when a rare event's values are long plain decimals
-// ("0.00004089"): no table scrolls sideways inside its box and no cell
-// lies past the screen's edge, on the expert's question page with the
+// ("0.00004089"): no table scrolls sideways inside its box, no cell
+// lies past the screen's edge, and each curve's three percentiles stand
+// on one line or on three, not two and one, on the expert's question page with the
 // judgement 0.00002, 0.00005, 0.00012 saved, the facilitator's entry
 // page for it, the question's panel, its room view and its study page,
 // in round 2.
@@ -129,6 +130,18 @@ func TestRareEventChartTablesOnAPhone(t *testing.T) {
 			unnamed := eval[[]string](pg.p, "numbers without their names", `[...document.querySelectorAll(".chart-table")].filter(tb => tb.getClientRects().length && (!tb.tHead || !tb.tHead.getClientRects().length)).flatMap(tb => [...tb.querySelectorAll("td")].filter(c => c.getClientRects().length && c.innerText.trim() && getComputedStyle(c, "::before").content === "none" && ![...c.parentElement.children].some(h => h.tagName === "TH" && h.getClientRects().length))).map(c => c.innerText.trim()).slice(0, 6)`)
 			if len(unnamed) > 0 {
 				t.Errorf("%s: numbers shown without their column's name: %q", where, unnamed)
+			}
+			// Each curve's 5%, median and 95% read evenly: all three on one
+			// line or each on its own, never two on a line and the third
+			// alone on the next.
+			uneven := eval[[]string](pg.p, "curves' percentiles split unevenly", `[...document.querySelectorAll(".chart-table-curves tbody tr")].filter(tr => tr.getClientRects().length).flatMap(tr => {
+				const tops = [...tr.querySelectorAll("td[data-label]")].filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().top));
+				tops.sort((a, b) => a - b);
+				const lines = tops.filter((y, i) => i === 0 || y - tops[i - 1] > 3).length;
+				return lines === 1 || lines === tops.length ? [] : [(tr.querySelector("th") || tr).innerText.trim().split("\n")[0] + ": " + tops.length + " values on " + lines + " lines (" + [...tr.querySelectorAll("td[data-label]")].map(c => c.dataset.label + " " + c.innerText.trim()).join(", ") + ")"];
+			}).slice(0, 4)`)
+			for _, u := range uneven {
+				t.Errorf("%s: %s", where, u)
 			}
 			for _, tb := range tables {
 				n, _, _ := strings.Cut(tb, " ")
