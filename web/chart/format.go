@@ -177,7 +177,7 @@ func formatWithin(x, lower, upper float64, percent bool, min int) string {
 func FormatRangeWithin(xs []float64, lower, upper float64, percent bool) []string {
 	same := func(a, b float64) bool {
 		d := math.Min(math.Min(a-lower, upper-a), math.Min(b-lower, upper-b))
-		return d > 0 && math.Abs(a-b) <= rangeNoise*d
+		return a == b || d > 0 && math.Abs(a-b) <= rangeNoise*d
 	}
 	return distinctFigures(xs, func(x float64, min int) string { return formatWithin(x, lower, upper, percent, min) }, same)
 }

@@ -287,6 +287,10 @@ func TestRangeRoundingReadsAsOne(t *testing.T) {
 		// 1e-13 apart, a millionth of the distance to 1 is 1e-13.
 		{[]float64{0.9999999, 0.9999999 + 1.1e-13}, []string{"0.9999999", "0.9999999000001"}},
 		{[]float64{1e-8, 1.000001e-8}, []string{"0.00000001", "0.00000001000001"}},
+		// A chips board's fitted values: its rows at 100% are the bound
+		// itself, equal, and were taken for values to read apart, which
+		// wrote 0.1002 "0.10020633281790578".
+		{[]float64{0, 0.10020633281790578, 0.1491886580362857, 1, 1, 1, 1}, []string{"0", "0.1002", "0.1492", "1", "1", "1", "1"}},
 	} {
 		lower, upper := 0.0, 1.0
 		if c.xs[0] > 1 {
