@@ -229,6 +229,19 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	top = snapTop(top * 1.08)
 	dens.Y1 = top
 	g.DensityTop = top
+	// Density labels too wide to stand beside the upright title (0.0010
+	// an hour on [0, 10000], 15000 for a rare event) take their room from
+	// the plot, as the study's picture does for its labels; the picture
+	// keeps its width. The room depends on the layout and top alone, which
+	// key the remembered frames and paths.
+	if need := yTitleRoom - yLabelsLeft(dens, ticks(0, top, densityTicksN), "density", lay.Name); need > 0 {
+		need = math.Ceil(need)
+		lay.Left += need
+		lay.PlotW -= need
+		g.Layout = lay
+		dens.Left, dens.Width = lay.Left, lay.PlotW
+		cumul.Left, cumul.Width = lay.Left, lay.PlotW
+	}
 
 	for i, c := range curves {
 		if !valid[i] {
@@ -555,7 +568,49 @@ func yAxes(lay layout, f frame, ts []tick, title, class string) axesGeom {
 	if lay.Name == compactLayout.Name {
 		tx = 15 // the title against the edge, the ticks' labels beside it
 	}
+	// Clear of the labels level with it (newTwinIn leaves the room).
+	tx = min(tx, yLabelsLeft(f, ts, title, lay.Name)-yTitleGap-yDescent*yTitlePx)
 	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
 	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	return a
+}
+
+// The y axes' labels and title at the largest sizes a stylesheet draws
+// them: the room view's 15px on the wide drawing (static/style.css), a
+// phone's 14px tick labels on the compact (static/chart.css), and the
+// title's 15px in both, bold. An upright title's glyphs reach yAscent of
+// its size to the left of its baseline and yDescent to the right.
+const (
+	yTitlePx  = 15
+	yAscent   = 0.76
+	yDescent  = 0.24
+	yTitleGap = 3 // between the title and its tick labels
+	// yTitleRoom is the least x at which the labels level with a title
+	// may begin: the title, its gap and a unit at the picture's edge.
+	yTitleRoom = 1 + (yAscent+yDescent)*yTitlePx + yTitleGap
+)
+
+func yTickPx(layout string) float64 {
+	if layout == compactLayout.Name {
+		return 14
+	}
+	return 15
+}
+
+// yLabelsLeft is where the widest of ts's labels on f's y axis that lie
+// level with its upright title (centred on the plot's height) begins:
+// f.Left when none does. A label is drawn 6 units left of the axis and
+// 4 below its tick.
+func yLabelsLeft(f frame, ts []tick, title, layout string) float64 {
+	px := yTickPx(layout)
+	half := labelEm(title, true) * yTitlePx / 2
+	mid := f.Top + f.Height/2
+	left := f.Left
+	for _, t := range ts {
+		y := f.py(t.Value) + 4
+		if y-yAscent*px < mid+half && y+yDescent*px > mid-half {
+			left = min(left, f.Left-6-labelEm(t.Label, false)*px)
+		}
+	}
+	return left
 }
