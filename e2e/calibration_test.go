@@ -187,3 +187,41 @@ func TestCalibrationScaleFormInBrowser(t *testing.T) {
 	fac.sees("calibration page", "Information scored on the log scale")
 	shots.take(fac, "calibration-scale-set-390")
 }
+
+// TestSteadinessTableOfManyQuestionsFits: the calibration page's table of
+// reruns, a column per target question, keeps to the page at a
+// projector's 1280 and 1366 px when a workshop has five target questions,
+// one of them a rare event written "0.00001829 · 0.00005055 · 0.0001084":
+// the table widened the whole page to 1707 px at 1366. It now scrolls in
+// a box of its own, every column within the box's reach (fits).
+func TestSteadinessTableOfManyQuestionsFits(t *testing.T) {
+	site, d := startDemo(t)
+	ctx := context.Background()
+	rare := [][]float64{{0.00002, 0.00005, 0.00012}, {0.00003, 0.0001, 0.00025}, {0.00005, 0.00015, 0.0004}, {0.00004, 0.00012, 0.0003}}
+	for k := range 4 {
+		q := workshop.Question{WorkshopID: d.w.ID, Wording: fmt.Sprintf("(Invented.) What proportion of HX-40 units will show fault %d in their first year?", k+1),
+			Quantity: fmt.Sprintf("first-year share with fault %d", k+1), Units: "proportion of units", Lower: 0, Upper: 1,
+			Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+		if err := site.DB.AddQuestion(ctx, &q); err != nil {
+			t.Fatal(err)
+		}
+		for e, vs := range rare {
+			rv := workshop.Revision{QuestionID: q.ID, ExpertID: d.experts[e].ID, Answer: workshop.Answer{Values: vs}}
+			if err := site.DB.SaveRevision(ctx, &rv); err != nil {
+				t.Fatal(err)
+			}
+		}
+	}
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	for _, w := range []int64{1280, 1366} {
+		fac.viewport(w, 900, false)
+		fac.open(d.url + "/calibration")
+		if fac.count(".table-steadiness") == 0 {
+			t.Fatalf("at %d px the calibration page has no table of reruns", w)
+		}
+		fac.sees("the reruns", "0.00005055")
+		fits(t, fac, "the calibration page with five target questions", w)
+	}
+}
