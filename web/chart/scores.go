@@ -529,12 +529,11 @@ func placeLabel(text string, bold bool, x, y, r float64, f frame, placed []label
 	return mk(0)
 }
 
-// decadeLabel writes 10^e for a whole e ≤ 0: 1, 0.1, 0.01, 0.001, then 1e-4.
+// decadeLabel writes 10^e for a whole e ≤ 0 as the pages write numbers,
+// in plain decimals down to 1e-9 (FormatSpread's rule: 0.0001, not
+// "1e-4", beside a score of 0.0003602), then 1e-10.
 func decadeLabel(e float64) string {
-	if e >= -3 {
-		return FormatValue(math.Pow(10, e))
-	}
-	return fmt.Sprintf("1e%d", int(e))
+	return formatSigFixedFrom(math.Pow(10, e), 4, -9)
 }
 
 // scoreFigures is the significant figures of the map's scores and
