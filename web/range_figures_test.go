@@ -153,30 +153,3 @@ func TestBoundsReadApart(t *testing.T) {
 		}
 	}
 }
-
-// The overview's table of questions writes each question's bounds as the
-// question's panel does: it wrote them with %g to six figures, so bounds
-// of 1 and 1.000001 read "1 to 1", and an hours question on [0, 1000000]
-// "0 to 1e+06".
-func TestOverviewWritesBoundsAsThePanel(t *testing.T) {
-	h := newHarness(t)
-	h.signIn()
-	ctx := context.Background()
-	ws := workshop.Workshop{Title: "Gauge survey (invented)", Invented: true}
-	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
-		t.Fatal(err)
-	}
-	for _, b := range [][2]float64{{1, 1.000001}, {0, 1e6}} {
-		q := workshop.Question{WorkshopID: ws.ID, Wording: "Reading?", Quantity: "invented reading", Lower: b[0], Upper: b[1],
-			Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
-		if err := h.db.AddQuestion(ctx, &q); err != nil {
-			t.Fatal(err)
-		}
-	}
-	_, body := h.get(workshopPath(ws.ID))
-	for _, want := range []string{`data-label="Bounds">1 to 1.000001</td>`, `data-label="Bounds">0 to 1000000</td>`} {
-		if !strings.Contains(body, want) {
-			t.Errorf("the overview lacks %q", want)
-		}
-	}
-}
