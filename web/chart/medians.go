@@ -158,6 +158,15 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 	if len(v.Medians) < minBoxMedians {
 		m.Rows = []spreadQuartile{{"lowest", value(sp.Lowest)}, {mid, value(sp.Median)}, {"highest", value(sp.Highest)}}
 	}
+	if len(v.Medians) == 1 {
+		// One answer has no spread: "lowest", "median of the medians"
+		// and "highest" wrote its one median three times.
+		m.Desc = "The one expert's median: " + parts[0] + "."
+		if v.Truth != nil {
+			m.Desc += " The true value, now revealed, is " + value(*v.Truth) + "."
+		}
+		m.Rows = []spreadQuartile{{v.Labels[0] + "'s median, the only answer", value(sp.Median)}}
+	}
 	return m
 }
 
