@@ -195,7 +195,14 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		}
 		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists}
 	} else {
-		if fb.poolErr == nil {
+		switch {
+		case fb.poolErr != nil:
+		case len(curves) == 1:
+			// A pool of one is that expert's curve: drawn after it, its
+			// thick line hid the expert's, whose legend then named a line
+			// the room could not find. The expert is drawn above it.
+			curves = append([]chart.Curve{poolCurve(fb.pool)}, curves...)
+		default:
 			curves = append(curves, poolCurve(fb.pool))
 		}
 		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
