@@ -9,7 +9,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -47,19 +46,7 @@ func TestRareEventChartTablesOnAPhone(t *testing.T) {
 	if priya < 0 {
 		t.Fatal("no Priya in the demo")
 	}
-	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20003, Upper: 1}
-	made, err := elicit.Construct(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := site.DB.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction,
-		Dist: made.Dist, Construction: &in, Rationale: "About 3 in 20,000 (invented).", RoundOpen: true}); err != nil {
-		t.Fatal(err)
-	}
-	if err := site.DB.RecordData(ctx, &workshop.StudyData{QuestionID: q.ID, Successes: 0, Trials: 1000,
-		Source: "Site log (invented)", ObservedOn: "2026-03-31"}); err != nil {
-		t.Fatal(err)
-	}
+	agreeRarePrior(t, site, q)
 	// Round 1 closes and round 2 opens: the room shows the panel, and the
 	// expert's page the other experts' curves beside her own fit.
 	if err := site.DB.SetRound(ctx, d.w.ID, 1, false, "Round 1 discussed (invented)."); err != nil {

@@ -360,19 +360,7 @@ func TestRareEventSpreadsOnAPhone(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20003, Upper: 1}
-	made, err := elicit.Construct(in)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := site.DB.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction,
-		Dist: made.Dist, Construction: &in, Rationale: "About 3 in 20,000 (invented).", RoundOpen: true}); err != nil {
-		t.Fatal(err)
-	}
-	if err := site.DB.RecordData(ctx, &workshop.StudyData{QuestionID: q.ID, Successes: 0, Trials: 1000,
-		Source: "Site log (invented)", ObservedOn: "2026-03-31"}); err != nil {
-		t.Fatal(err)
-	}
+	made := agreeRarePrior(t, site, q)
 	priorSD := chart.FormatSpread(made.Dist.SD())
 	post := elicit.Beta{Alpha: 3, Beta: 21000}
 	postSD := chart.FormatSpread(post.SD())
@@ -418,4 +406,28 @@ func TestRareEventSpreadsOnAPhone(t *testing.T) {
 			}
 		}
 	}
+}
+
+// agreeRarePrior agrees a rare event's prior for q, Beta(3, 20000) made
+// from an equivalent sample of 3 successes in 20003 trials, and records
+// 0 successes in 1000 trials against it (all invented): the agreed
+// prior, the study's posterior and the comparison then write long plain
+// decimals ("0.00004088").
+func agreeRarePrior(t *testing.T, site *site, q workshop.Question) elicit.Construction {
+	t.Helper()
+	ctx := context.Background()
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 3, Trials: 20003, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: "About 3 in 20,000 (invented).", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
+	if err := site.DB.RecordData(ctx, &workshop.StudyData{QuestionID: q.ID, Successes: 0, Trials: 1000,
+		Source: "Site log (invented)", ObservedOn: "2026-03-31"}); err != nil {
+		t.Fatal(err)
+	}
+	return made
 }
