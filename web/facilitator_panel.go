@@ -213,6 +213,11 @@ func (d workshopData) state(q workshop.Question) questionState {
 func (st questionState) chartView() picture {
 	q := st.Question
 	frame := chart.PanelView{ID: "panel-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	if q.Frozen() && q.TrueValue != nil {
+		// Revealed to the room, as the room view draws it.
+		t := *q.TrueValue
+		frame.Truth = &t
+	}
 	var names []string
 	var dists []elicit.ScaledBeta
 	for _, row := range st.Rows {

@@ -205,7 +205,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		default:
 			curves = append(curves, poolCurve(fb.pool))
 		}
-		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves}
+		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth}
 		v.ChartNotes = chart.PanelNotes(*v.Panel)
 	}
 	v.Reasons = fb.reasons(0)

@@ -22,6 +22,28 @@ type PanelView struct {
 	// who types their judgement of a proportion in percentages, so that
 	// the panel speaks as their own fit does.
 	Percent bool
+	// Truth is a calibration question's true value once it is revealed to
+	// the room (the condition MedianStripView.Truth is set on), nil
+	// before: drawn as a labelled upright line through both plots and
+	// said in the caption.
+	Truth *float64
+}
+
+// truth is the view's true value to draw, or nil.
+func (v PanelView) truth() *float64 {
+	if v.Truth == nil || !isFinite(*v.Truth) || *v.Truth < v.Lower || *v.Truth > v.Upper {
+		return nil
+	}
+	return v.Truth
+}
+
+// extra are the values the picture's window keeps inside it: the true
+// value, once revealed.
+func (v PanelView) extra() []float64 {
+	if t := v.truth(); t != nil {
+		return []float64{*t}
+	}
+	return nil
 }
 
 // value writes a value of the quantity as the view's reader typed it.
@@ -55,6 +77,37 @@ type panelDrawing struct {
 	ID     string
 	Twin   twinGeom
 	Legend []legendGeom
+	Truth  *truthGeom // the revealed true value's line, nil without one
+}
+
+// truthGeom is the true value's upright line through both plots and its
+// label above the density plot.
+type truthGeom struct {
+	X, Y1, Y2              string
+	LabelX, LabelY, Anchor string
+	Label                  string
+}
+
+// panelTruth lays out the line and label of the true value x in g, or nil
+// when x lies outside the window. The label is kept inside the picture
+// at truthLabelPx, as the median strip keeps its own: near an edge it is
+// anchored to it.
+func panelTruth(g twinGeom, x float64, label string) *truthGeom {
+	if !(x >= g.X0 && x <= g.X1) {
+		return nil
+	}
+	w := g.Layout.width()
+	tx := g.dens.px(x)
+	half := labelEm(label, true) * truthLabelPx / 2
+	lx, anchor := tx, "middle"
+	switch {
+	case tx-half < 2:
+		lx, anchor = 2, "start"
+	case tx+half > w-2:
+		lx, anchor = w-2, "end"
+	}
+	return &truthGeom{X: coord(tx), Y1: coord(g.dens.Top - 4), Y2: coord(g.cumul.bottom()),
+		LabelX: coord(lx), LabelY: coord(g.dens.Top - 10), Anchor: anchor, Label: label}
 }
 
 type panelModel struct {
@@ -88,7 +141,7 @@ func PanelNotes(v PanelView) []string {
 	if len(curves) == 0 {
 		return nil
 	}
-	return newTwinIn(wideLayout, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false, v.Percent).Notes
+	return newTwinIn(wideLayout, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
 }
 
 func newPanelModel(v PanelView) panelModel {
@@ -107,9 +160,12 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	for i, lay := range layouts {
-		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, nil, false, v.Percent)}
+		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
+		}
+		if t := v.truth(); t != nil {
+			d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
 		}
 		d.Legend = panelLegend(&d.Twin, curves, v.values)
 		m.Drawings = append(m.Drawings, d)
@@ -130,6 +186,9 @@ func newPanelModel(v PanelView) panelModel {
 	fmt.Fprintf(&b, "Density (upper plot) and chance below each value (lower plot) of %s, between the bounds %s and %s. ",
 		axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
 	b.WriteString(strings.Join(words, "; ") + ". ")
+	if t := v.truth(); t != nil {
+		fmt.Fprintf(&b, "The true value, now revealed, is %s: the red dashed upright line. ", v.value(*t))
+	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")
 	}

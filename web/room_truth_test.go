@@ -1,0 +1,60 @@
+package web
+
+import (
+	"context"
+	"net/url"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// The room view's picture of the curves, and the facilitator's picture on
+// the question's panel, draw a calibration question's true value as a
+// labelled upright line once it is revealed, and say it in the caption;
+// before the reveal neither has any of it (the room then shows no answers
+// at all, and the facilitator's picture no line though the value is
+// stored).
+func TestRoomAndPanelDrawTheTrueValueOnlyOnceRevealed(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q := qs[2]
+	if q.TrueValue == nil || !q.Calibration {
+		t.Fatal("the seed's question 3 is not a calibration question with a true value")
+	}
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != 303 {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	label := "true value " + chart.FormatWithin(*q.TrueValue, q.Lower, q.Upper, false)
+	caption := "The true value, now revealed, is " + chart.FormatWithin(*q.TrueValue, q.Lower, q.Upper, false)
+	pictureOf := func(body string) string {
+		return regexp.MustCompile(`(?s)<div class="chart-with-table chart-panel".*?</figure>`).FindString(body)
+	}
+	_, room := h.get(roomPath(ws.ID, q.ID))
+	_, panel := h.get(questionPath(ws.ID, q.ID))
+	for name, body := range map[string]string{"room": room, "panel": panel} {
+		if strings.Contains(body, `class="chart-truth"`) || strings.Contains(body, label) || strings.Contains(body, caption) {
+			t.Errorf("the %s shows the true value on its picture before the reveal", name)
+		}
+	}
+	if err := h.db.SetTrueValue(context.Background(), q.ID, *q.TrueValue, true, "Revealed after round 1 (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, room = h.get(roomPath(ws.ID, q.ID))
+	_, panel = h.get(questionPath(ws.ID, q.ID))
+	for name, body := range map[string]string{"room": room, "panel": panel} {
+		pic := pictureOf(body)
+		if pic == "" {
+			t.Fatalf("the %s draws no picture of the curves after the reveal", name)
+		}
+		if n := strings.Count(pic, `class="chart-truth"`); n != 2 {
+			t.Errorf("the %s's picture draws the true value in %d layouts, want both", name, n)
+		}
+		if n := strings.Count(pic, ">"+label+"</text>"); n != 2 {
+			t.Errorf("the %s's picture labels the true value %q %d times, want once per layout", name, label, n)
+		}
+		if !regexp.MustCompile(`(?s)<figcaption>[^<]*` + regexp.QuoteMeta(caption)).MatchString(pic) {
+			t.Errorf("the %s's caption does not say %q", name, caption)
+		}
+	}
+}
