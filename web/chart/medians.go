@@ -49,7 +49,17 @@ type medianDrawing struct {
 	NoBox                  bool   // too few medians for quartiles (minBoxMedians)
 	TruthAnchor            string // the label's text-anchor: start, middle or end
 	TruthY1, TruthY2       string
+	// The legend under the axis names the upright mark at the middle
+	// expert's median, which the projector otherwise left unexplained.
+	LegendX, LegendY           string
+	LegendMarkX                string
+	LegendMarkY1, LegendMarkY2 string
 }
+
+// midLegend is the legend's words for the upright mark at the middle
+// expert's median (sp.Median, by nearest rank: with an even count the
+// lower of the two middle ones, as the table beside says).
+const midLegend = "middle expert's median"
 
 type medianStripModel struct {
 	ID, Title, Desc string
@@ -76,6 +86,7 @@ const (
 	stripRowH   = 22.0
 	stripTop    = 30.0
 	stripBottom = 40.0
+	stripLegend = 26.0 // the legend's line under the tick labels
 )
 
 // MedianStrip draws v.
@@ -197,8 +208,8 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		rowEnd[r] = x
 		rows[i] = r
 	}
-	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom
-	axisY := h - stripBottom
+	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom + stripLegend
+	axisY := h - stripBottom - stripLegend
 	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
 	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
 	d.TickY = coord(axisY + 20)
@@ -211,6 +222,9 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	d.BoxX, d.BoxW = coord(f.px(sp.LowerQuartile)), coord(math.Max(2, f.px(sp.UpperQuartile)-f.px(sp.LowerQuartile)))
 	d.BoxY, d.BoxH = coord(boxTop), coord(axisY-boxTop)
 	d.MidX = coord(f.px(sp.Median))
+	legendY := axisY + stripBottom + stripLegend/2
+	d.LegendMarkX, d.LegendMarkY1, d.LegendMarkY2 = coord(f.Left+2), coord(legendY-13), coord(legendY+3)
+	d.LegendX, d.LegendY = coord(f.Left+12), coord(legendY)
 	for i, med := range v.Medians {
 		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
 		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
