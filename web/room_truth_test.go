@@ -58,3 +58,19 @@ func TestRoomAndPanelDrawTheTrueValueOnlyOnceRevealed(t *testing.T) {
 		}
 	}
 }
+
+// The room's fingerprint line says plainly which close the value is
+// for: "…show the same value for this close." read as the record's
+// jargon.
+func TestRoomFingerprintNoteNamesTheRound(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != 303 {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	_, body := h.get(roomPath(ws.ID, qs[0].ID))
+	m := regexp.MustCompile(`(?s)<span class="room-fingerprint-note">(.*?)</span>`).FindStringSubmatch(body)
+	want := "Note it: a later copy of the record must show this same value for round 1's close."
+	if m == nil || strings.Join(strings.Fields(m[1]), " ") != want {
+		t.Errorf("the room's fingerprint note reads %q, want %q", m, want)
+	}
+}
