@@ -149,6 +149,26 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	fitsScreen(t, room, 1280, 720)
 	notesReadable(t, room, "1280×720", 16)
 	shots.take(room, "room-02c-question-1-1280x720")
+	// The facilitator looking at the room view on a phone: the page flows
+	// in one column and scrolls, and no part is drawn over another (held
+	// to the screen's height, the picture, the notes and the medians'
+	// strip overlapped).
+	room.viewport(390, 844, true)
+	room.open(roomURL(q1))
+	fits(t, room, "the room view on a phone", 390)
+	if over := eval[[]string](room, "parts drawn over one another", `(() => {
+		const parts = [".room-head", ".room-chart svg.chart-svg", ".room-chart-notes", ".room-side", ".room-nav"].
+			map(sel => [sel, document.querySelector(sel)]).filter(([, e]) => e && e.getClientRects().length);
+		const out = [];
+		for (let i = 0; i < parts.length; i++) for (let j = i + 1; j < parts.length; j++) {
+			const a = parts[i][1].getBoundingClientRect(), b = parts[j][1].getBoundingClientRect();
+			if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(parts[i][0] + " over " + parts[j][0]);
+		}
+		return out;
+	})()`); len(over) > 0 {
+		t.Errorf("the room view on a phone draws parts over one another: %q", over)
+	}
+	shots.take(room, "room-02d-question-1-390")
 	room.viewport(1920, 1080, false)
 	room.open(roomURL(q1))
 
