@@ -331,6 +331,11 @@ func fittedBack(p, fittedP float64) string {
 		// read badly.
 		return "The fitted curve puts all but a vanishing part of the chance " + side + " it."
 	}
+	if c < 1e-6 || c > 1-1e-6 {
+		// A far tail: a true bound, not "no chance" or fourteen figures
+		// short of certainty.
+		return "The fitted curve gives a chance of " + chart.FormatChance(c) + " " + side + " it."
+	}
 	return "The fitted curve gives " + chance(c) + " " + side + " it."
 }
 

@@ -153,7 +153,7 @@ func newFitModel(v FitView) fitModel {
 			x, chance = v.Dist.Quantile(p.P), v.Dist.CDF(p.X)
 		}
 		stated, fitted = append(stated, p.X), append(fitted, x)
-		m.Rows = append(m.Rows, fitRow{Chance: FormatPercent(p.P), FittedChance: fittedChance(chance)})
+		m.Rows = append(m.Rows, fitRow{Chance: FormatPercent(p.P), FittedChance: fittedChance(chance, p.X, v)})
 	}
 	// Each column is one range: values typed apart, and the fitted values
 	// at the probabilities asked, read apart.
@@ -174,12 +174,13 @@ func newFitModel(v FitView) fitModel {
 	return m
 }
 
-// fittedChance writes the fitted chance below a stated value for the
-// fit's table, which an expert reads: a chance under 0.001% is "under
-// 0.001%", not an exponent ("3e-5%").
-func fittedChance(p float64) string {
-	if p > 0 && p < 1e-5 {
-		return "under 0.001%"
+// fittedChance writes the fitted chance below a stated value x for the
+// fit's table, which an expert reads: as FormatChance does for a value
+// strictly inside the bounds, as FormatPercent does at a bound, where the
+// chance below is exactly 0 or 1.
+func fittedChance(p, x float64, v FitView) string {
+	if x > v.Lower && x < v.Upper {
+		return FormatChance(p)
 	}
 	return FormatPercent(p)
 }

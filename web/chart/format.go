@@ -260,6 +260,25 @@ func FormatPercent(p float64) string {
 	return formatSig(p*100, sig) + "%"
 }
 
+// FormatChance writes a chance the app computed for a value strictly
+// inside a question's bounds (a fitted curve's chance below a stated
+// value), which lies strictly between 0 and 1 however near either it
+// comes: as FormatPercent does, except that a chance above 1 − 1e-6 is
+// "more than 99.9999%" and one below 1e-6 "less than 0.0001%", true
+// bounds an expert can read, where FormatPercent, to stay short of 100%,
+// wrote a far upper tail with up to fourteen figures ("99.999999999997%")
+// and double rounding could give "100%" or "0%". A probability a question
+// asks is not computed and keeps FormatPercent's writing.
+func FormatChance(p float64) string {
+	switch {
+	case p > 1-1e-6 && p <= 1:
+		return "more than 99.9999%"
+	case p < 1e-6 && p >= 0:
+		return "less than 0.0001%"
+	}
+	return FormatPercent(p)
+}
+
 // exactPercent reports whether the percentage s reads back as p, within
 // the rounding of the reading.
 func exactPercent(s string, p float64) bool {

@@ -154,8 +154,8 @@ func TestFormatPercentStaysShortOfCertainty(t *testing.T) {
 }
 
 // The fit's table never writes a chance with an exponent: a fitted curve
-// that leaves almost nothing below an expert's 5% value says "under
-// 0.001%" (Beta(40, 2) gives about 4e-20 below 0.3; by hand, I_0.3(40, 2)
+// that leaves almost nothing below an expert's 5% value says "less than
+// 0.0001%" (Beta(40, 2) gives about 4e-20 below 0.3; by hand, I_0.3(40, 2)
 // ≈ 41·0.3⁴⁰).
 func TestFitTableSaysATinyChanceInWords(t *testing.T) {
 	v := FitView{ID: "tiny", Quantity: "share", Lower: 0, Upper: 1,
@@ -166,7 +166,7 @@ func TestFitTableSaysATinyChanceInWords(t *testing.T) {
 	if err := Fit(v).Render(t.Context(), &b); err != nil {
 		t.Fatal(err)
 	}
-	if !hasCell(b.String(), "under 0.001%") || regexp.MustCompile(`e-\d+%`).MatchString(b.String()) {
+	if !hasCell(b.String(), "less than 0.0001%") || regexp.MustCompile(`e-\d+%`).MatchString(b.String()) {
 		t.Errorf("the fit's table writes a tiny chance with an exponent:\n%s", b.String())
 	}
 }
@@ -309,5 +309,29 @@ func TestRangeRoundingReadsAsOne(t *testing.T) {
 	v.Truth = &truth
 	if d := newMedianStrip(v).Desc; strings.Contains(d, "0.0400000") || !strings.Contains(d, "A 0.04,") {
 		t.Errorf("median strip: %s", d)
+	}
+}
+
+// A computed chance in a far tail is a true bound an expert can read;
+// nearer in it is written as FormatPercent writes it (worked by hand).
+func TestFormatChanceBoundsAFarTail(t *testing.T) {
+	for p, want := range map[float64]string{
+		0.99999999999997: "more than 99.9999%", // FormatPercent: "99.999999999997%"
+		0.9999999:        "more than 99.9999%",
+		1:                "more than 99.9999%", // a value strictly inside: 1 only by rounding
+		0.999999:         "99.9999%",
+		0.99977:          "99.98%",
+		0.5:              "50%",
+		0.00000312:       "0.000312%",
+		0.0000009:        "less than 0.0001%",
+		0:                "less than 0.0001%",
+	} {
+		if got := FormatChance(p); got != want {
+			t.Errorf("FormatChance(%v) = %q, want %q", p, got, want)
+		}
+	}
+	// A probability a question asks keeps its figures.
+	if got := FormatPercent(0.9999999); got != "99.99999%" {
+		t.Errorf("FormatPercent(0.9999999) = %q, want 99.99999%%", got)
 	}
 }
