@@ -509,15 +509,19 @@ func previewInviteEnd(s saving, whose string) string {
 // the page, where the fit can be tried, but nothing done there is kept:
 // "Your values are kept below" stood above chips that could still be
 // moved, and moving them kept nothing. Chips are placed on a board, not
-// typed, and the sentence says so.
-func closedNotSaved(round int, format workshop.AnswerFormat) string {
+// typed, and the sentence says so. sp is whose values they are: the
+// expert's own, or, on the facilitator's entry page, the named expert's.
+func closedNotSaved(round int, format workshop.AnswerFormat, sp speaker) string {
 	lead := "Round " + strconv.Itoa(round) + " is closed, so "
+	// The expert keeps their own note; the facilitator, who opens the
+	// next round, keeps one of the expert's values.
+	next := sp.pick("when the facilitator opens", "when you open")
 	if format == workshop.FormatChips {
-		return lead + "your chips were not saved. They are still on the board below, where you can move them to try the fit, " +
-			"but nothing here is kept: note where they are if you want them when the facilitator opens the next round."
+		return lead + sp.pick("your", "%s's") + " chips were not saved. They are still on the board below, where you can move them to try the fit, " +
+			"but nothing here is kept: note where they are if you want them " + next + " the next round."
 	}
-	return lead + "your answer was not saved. Your values are still in the form below, where you can change them to try the fit, " +
-		"but nothing here is kept: note them down if you want them when the facilitator opens the next round."
+	return lead + sp.pick("your answer was not saved. Your", "%s's answer was not saved. Their") + " values are still in the form below, where you can change them to try the fit, " +
+		"but nothing here is kept: note them down if you want them " + next + " the next round."
 }
 
 // closedButton is the disabled save button's words when the form does
@@ -839,7 +843,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		again(http.StatusUnprocessableEntity, "", "", &fit)
 		return
 	}
-	closed := closedNotSaved(sc.workshop.Round, sc.question.Format)
+	closed := closedNotSaved(sc.workshop.Round, sc.question.Format, speaker{})
 	if sc.workshop.Archived {
 		closed = "The facilitator has closed this workshop, so your answer was not saved and nothing more can be."
 	}

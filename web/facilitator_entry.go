@@ -247,7 +247,7 @@ func (s *Server) entrySave(w http.ResponseWriter, r *http.Request) {
 		var notice string
 		switch {
 		case errors.Is(err, workshop.ErrRoundClosed):
-			notice = "Round " + strconv.Itoa(sc.ws.Round) + " is closed, so nothing was saved. The values are kept below."
+			notice = closedNotSaved(sc.ws.Round, sc.q.Format, sc.speaker())
 		case errors.Is(err, workshop.ErrAnswersFrozen):
 			notice = "The true value of this question has been shown, so its answers are final and nothing was saved."
 		case errors.Is(err, workshop.ErrRetired):

@@ -108,7 +108,7 @@ func TestFacilitatorEntryFollowsTheRules(t *testing.T) {
 	if err := h.db.SetRound(ctx, ws.ID, 1, false, ""); err != nil {
 		t.Fatal(err)
 	}
-	if r, body := h.post(entryPath(ws.ID, qs[0].ID, es[2].ID)+"/save", form); r.StatusCode != http.StatusConflict || !strings.Contains(body, "is closed, so nothing was saved") || !strings.Contains(body, `value="0.03"`) {
+	if r, body := h.post(entryPath(ws.ID, qs[0].ID, es[2].ID)+"/save", form); r.StatusCode != http.StatusConflict || !strings.Contains(body, "is closed, so Priya Raman&#39;s answer was not saved") || !strings.Contains(body, `value="0.03"`) {
 		t.Fatalf("entry in a closed round: %d", r.StatusCode)
 	}
 	if after, _ := h.db.Revisions(ctx, ws.ID); len(after) != len(before) {
