@@ -209,6 +209,10 @@ type formField struct {
 	Value  string
 	Error  string
 	Suffix string // "%" for confidence
+	// FollowsUnit marks a value box whose "%" follows the unit choice
+	// ("As percentages" shows it): the page's script shows or hides the
+	// sign when the choice changes, before the form is sent.
+	FollowsUnit bool
 }
 
 // previewView is the fitted picture with its read-backs.
@@ -358,6 +362,7 @@ func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) ans
 		f.Fields = append(f.Fields, formField{
 			Name: name, ID: "f-" + strings.NewReplacer("[", "-", "]", "").Replace(name),
 			Label: label, Hint: hint, Value: value, Suffix: suffix,
+			FollowsUnit: f.Proportion && name != "confidence" && q.Format != workshop.FormatChips,
 		})
 	}
 	units := ""

@@ -13,11 +13,14 @@ import (
 // beside it when there is one ("9 %").
 func shownBox(t *testing.T, body, id string) string {
 	t.Helper()
-	m := regexp.MustCompile(`<input[^>]*id="` + regexp.QuoteMeta(id) + `"[^>]*value="([^"]*)"[^>]*>\s*(?:<span class="input-suffix">([^<]*)</span>)?`).FindStringSubmatch(body)
+	m := regexp.MustCompile(`<input[^>]*id="` + regexp.QuoteMeta(id) + `"[^>]*value="([^"]*)"[^>]*>\s*(?:<span class="input-suffix"(?: data-unit-suffix)?( hidden)?>([^<]*)</span>)?`).FindStringSubmatch(body)
 	if m == nil {
 		t.Fatalf("no box %s on the page", id)
 	}
-	return strings.TrimSpace(m[1] + " " + m[2])
+	if m[2] != "" { // a sign the page hides until the unit choice shows it
+		return strings.TrimSpace(m[1])
+	}
+	return strings.TrimSpace(m[1] + " " + m[3])
 }
 
 // A value typed with its own % sign under the percentage choice is shown

@@ -7,6 +7,36 @@
 // answer replaces the element named by data-preview-target. Nothing is
 // saved by a preview. Answers to older requests are dropped so a slow
 // reply never overwrites a newer one.
+//
+// Whether or not the preview can run, a value box's "%" follows the
+// form's unit choice ("As percentages" shows it) as soon as the choice
+// changes, not only when the form has been sent; a box whose value
+// carries its own sign shows none, as the server writes it ("9%", not
+// "9% %"). What is sent is unchanged.
+(function () {
+  "use strict";
+  Array.prototype.forEach.call(document.querySelectorAll("form"), function (form) {
+    var signs = form.querySelectorAll("[data-unit-suffix]");
+    var percent = form.querySelector('input[name="unit"][value="percent"]');
+    if (!signs.length || !percent) {
+      return;
+    }
+    function follow() {
+      Array.prototype.forEach.call(signs, function (sign) {
+        var box = sign.parentNode.querySelector("input");
+        var own = box && /%\s*$/.test(box.value);
+        sign.hidden = !percent.checked || own;
+      });
+    }
+    form.addEventListener("change", function (ev) {
+      if (ev.target && ev.target.name === "unit") {
+        follow();
+      }
+    });
+    form.addEventListener("input", follow);
+  });
+})();
+
 (function () {
   "use strict";
   var forms = document.querySelectorAll("form[data-preview]");
