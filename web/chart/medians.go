@@ -233,18 +233,9 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	if v.Truth != nil {
 		tx := f.px(*v.Truth)
 		label := "true value " + value(*v.Truth)
-		// Keep the label inside the picture at the largest size a
-		// stylesheet gives it (16px bold on the wide strip, and the
-		// projector's view scales the whole picture, not the label alone):
-		// this allows 17px. Near an edge the label is anchored to it.
-		half := labelEm(label, true) * truthLabelPx / 2
-		lx, anchor := tx, "middle"
-		switch {
-		case tx-half < 2:
-			lx, anchor = 2, "start"
-		case tx+half > w-2:
-			lx, anchor = w-2, "end"
-		}
+		// Kept inside the picture (16px bold on the wide strip; 17px is
+		// allowed).
+		lx, anchor := truthLabelAt(tx, label, w)
 		d.TruthAnchor = anchor
 		d.Truth = &stripDot{X: coord(tx), Label: label, LabelY: coord(stripTop - 18), Value: coord(lx)}
 		d.TruthY1, d.TruthY2 = coord(stripTop-12), coord(axisY)

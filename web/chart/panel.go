@@ -90,22 +90,13 @@ type truthGeom struct {
 
 // panelTruth lays out the line and label of the true value x in g, or nil
 // when x lies outside the window. The label is kept inside the picture
-// at truthLabelPx, as the median strip keeps its own: near an edge it is
-// anchored to it.
+// as the median strip keeps its own (truthLabelAt).
 func panelTruth(g twinGeom, x float64, label string) *truthGeom {
 	if !(x >= g.X0 && x <= g.X1) {
 		return nil
 	}
-	w := g.Layout.width()
 	tx := g.dens.px(x)
-	half := labelEm(label, true) * truthLabelPx / 2
-	lx, anchor := tx, "middle"
-	switch {
-	case tx-half < 2:
-		lx, anchor = 2, "start"
-	case tx+half > w-2:
-		lx, anchor = w-2, "end"
-	}
+	lx, anchor := truthLabelAt(tx, label, g.Layout.width())
 	return &truthGeom{X: coord(tx), Y1: coord(g.dens.Top - 4), Y2: coord(g.cumul.bottom()),
 		LabelX: coord(lx), LabelY: coord(g.dens.Top - 10), Anchor: anchor, Label: label}
 }
@@ -226,4 +217,22 @@ func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []strin
 	g.Height = top + float64((len(curves)+cols-1)/cols)*24 + 8
 	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
 	return out
+}
+
+// truthLabelAt places a true value's bold label for its line at column tx
+// of a picture w units wide: centred on the line, unless at truthLabelPx
+// (the largest size a stylesheet gives it, and the projector's view
+// scales the whole picture, not the label alone) it would leave the
+// picture; then anchored to the nearer edge. It returns the label's x and
+// its text-anchor. The median strip and the picture of the curves both
+// place theirs here.
+func truthLabelAt(tx float64, label string, w float64) (float64, string) {
+	half := labelEm(label, true) * truthLabelPx / 2
+	switch {
+	case tx-half < 2:
+		return 2, "start"
+	case tx+half > w-2:
+		return w - 2, "end"
+	}
+	return tx, "middle"
 }
