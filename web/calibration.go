@@ -16,6 +16,7 @@ import (
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // calibrationRoutes are a workshop's calibration pages: true values, the
@@ -202,7 +203,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 		if forms.truth != nil && forms.truthFor == q.ID {
 			row.Form = forms.truth
 		} else if q.TrueValue != nil {
-			row.Form.Values.Set("true_value", strconv.FormatFloat(*q.TrueValue, 'g', -1, 64))
+			row.Form.Values.Set("true_value", chart.FormatExact(*q.TrueValue))
 		}
 		answered := map[int64]bool{}
 		for _, e := range set.Answered[q.ID] {
@@ -275,7 +276,7 @@ func freshWeightsForm(wt workshop.Weights, experts []workshop.Expert, alpha stri
 	f.Values.Set("scheme", string(wt.Scheme))
 	f.Values.Set("alpha", alpha)
 	for _, e := range experts {
-		f.Values.Set(weightField(e.ID), strconv.FormatFloat(wt.Of(e.ID), 'g', -1, 64))
+		f.Values.Set(weightField(e.ID), chart.FormatExact(wt.Of(e.ID)))
 	}
 	return f
 }
@@ -520,7 +521,7 @@ func (s *Server) scoringProblem(err error, d workshopData) string {
 	what := "its " + pct(q.Probs[se.Quantile]) + " quantile"
 	for _, rv := range d.Revisions {
 		if rv.ID == se.RevisionID && se.Quantile < len(rv.Answer.Values) {
-			what += ", " + strconv.FormatFloat(rv.Answer.Values[se.Quantile], 'g', -1, 64) + ","
+			what += ", " + chart.FormatExact(rv.Answer.Values[se.Quantile]) + ","
 		}
 	}
 	return answer + ": " + what + " " + rule

@@ -1154,7 +1154,7 @@ func TestScoringRefusalNamesTheAnswer(t *testing.T) {
 	if err := h.db.SetLogScale(ctx, q.ID, true, "rates spread over orders of magnitude (invented)"); err != nil {
 		t.Fatal(err)
 	}
-	want := "Tomas&#39;s answer to calibration question Q1 surge rate: its 95% quantile, " + strconv.FormatFloat(near, 'g', -1, 64) +
+	want := "Tomas&#39;s answer to calibration question Q1 surge rate: its 95% quantile, 9.999999999999999e299" +
 		", " + string(elicit.RuleLogScaleTooClose)
 	res, body := h.get(calibrationPath(ws.ID))
 	if res.StatusCode != http.StatusOK {
@@ -1264,5 +1264,28 @@ func TestSteadinessShiftsInPlainDecimals(t *testing.T) {
 	if html := b.String(); strings.Contains(html, "1e-7") || !strings.Contains(html, `data-value="1e-07">0.0000001</text>`) ||
 		!strings.Contains(html, "The largest is 0.0000001, without Bo.") {
 		t.Errorf("the section writes a shift with an exponent:\n%s", html)
+	}
+}
+
+// TestCustomWeightsComeBackAsTyped: the weights form shows the custom
+// weights in force as the pages write numbers, every figure kept: a
+// weight of 0.00001 came back in its box as "1e-05" (%g).
+func TestCustomWeightsComeBackAsTyped(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	custom := url.Values{"scheme": {"custom"}, "reason": {"a small say (invented)"}}
+	for i, e := range p.experts {
+		custom.Set(weightField(e.ID), []string{"0.00001", "0", "1", "123456789"}[i])
+	}
+	if res, body := h.post(p.path()+"/weights", custom); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("custom weights: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(p.path())
+	for i, e := range p.experts {
+		want := []string{"0.00001", "0", "1", "123456789"}[i]
+		m := regexp.MustCompile(`name="` + regexp.QuoteMeta(weightField(e.ID)) + `" value="([^"]*)"`).FindStringSubmatch(page)
+		if m == nil || m[1] != want {
+			t.Errorf("%s's weight box: %v, want %q", e.Name, m, want)
+		}
 	}
 }

@@ -422,14 +422,16 @@ func hasAny(s string, subs ...string) bool {
 // The correction form gives a question's bounds back with every figure
 // they have: at four figures an upper bound of 12345 hours came back as
 // 12340, and a correction of the wording alone, sent as the form showed
-// it, moved the bound with it.
+// it, moved the bound with it. They read as the pages write numbers, in
+// plain decimals: %g wrote a lower bound of 0.0000001 as "1e-07" and an
+// upper bound of 123456789 as "1.23456789e+08".
 func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
 	h := newHarness(t)
 	h.signIn()
 	ws := h.newWorkshop("Exact bounds (invented)")
 	wp := workshopPath(ws.ID)
 	if r, body := h.post(wp+"/questions", url.Values{"wording": {"How many hours does a pump run before its first fault?"}, "quantity": {"hours to first fault"},
-		"units": {"hours"}, "lower": {"0.125"}, "upper": {"12345"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); r.StatusCode != http.StatusSeeOther {
+		"units": {"hours"}, "lower": {"0.0000001"}, "upper": {"123456789"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("add question: %d %s", r.StatusCode, body)
 	}
 	qs, _ := h.db.Questions(context.Background(), ws.ID)
@@ -443,8 +445,8 @@ func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
 		}
 		shown.Set(name, html.UnescapeString(m[1]))
 	}
-	if shown.Get("upper") != "12345" || shown.Get("lower") != "0.125" {
-		t.Errorf("the correction form shows the bounds as %q and %q, want 12345 and 0.125", shown.Get("lower"), shown.Get("upper"))
+	if shown.Get("upper") != "123456789" || shown.Get("lower") != "0.0000001" {
+		t.Errorf("the correction form shows the bounds as %q and %q, want 0.0000001 and 123456789", shown.Get("lower"), shown.Get("upper"))
 	}
 	shown.Set("format", "quantiles")
 	shown.Set("preset", "p05_50_95")
@@ -454,8 +456,8 @@ func TestCorrectionFormKeepsTheBoundsExact(t *testing.T) {
 		t.Fatalf("wording correction: %d %s", r.StatusCode, body)
 	}
 	got, _ := h.db.Question(context.Background(), qs[0].ID)
-	if got.Upper != 12345 || got.Lower != 0.125 || !strings.Contains(got.Wording, "of any kind") {
-		t.Errorf("after correcting the wording alone the question is %+v; want its bounds 0.125 and 12345 kept", got)
+	if got.Upper != 123456789 || got.Lower != 0.0000001 || !strings.Contains(got.Wording, "of any kind") {
+		t.Errorf("after correcting the wording alone the question is %+v; want its bounds 0.0000001 and 123456789 kept", got)
 	}
 }
 

@@ -327,7 +327,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	if wf == nil {
 		wf = newForm(nil)
 		for _, row := range st.Rows {
-			wf.Values.Set(weightField(row.Expert.ID), strconv.FormatFloat(st.Weights.Of(row.Expert.ID), 'g', -1, 64))
+			wf.Values.Set(weightField(row.Expert.ID), chart.FormatExact(st.Weights.Of(row.Expert.ID)))
 		}
 	}
 	if af == nil {

@@ -9,6 +9,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // probPresets are the sets of cumulative probabilities a quantile
@@ -240,7 +241,7 @@ func joinFloats(xs []float64) string {
 // exact writes a stored number back into a form with every figure it
 // has, so that sending the form unchanged changes nothing: at four
 // figures a bound of 12345 came back as 12340.
-func exact(x float64) string { return strconv.FormatFloat(x, 'g', -1, 64) }
+func exact(x float64) string { return chart.FormatExact(x) }
 
 // loadEdit reads the question to correct and its number of answers.
 func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (workshop.Workshop, *questionEdit, bool) {

@@ -235,6 +235,26 @@ func readApart(xs []float64, texts []string, same func(a, b float64) bool) bool 
 // of 0.00004089 is "0.00008658", not "8.658e-5".
 func FormatSpread(v float64) string { return formatSigFixedFrom(v, 4, -9) }
 
+// FormatExact writes v with every figure it holds (the shortest
+// decimal that reads back as v), for a value that must not be rounded: a
+// number put back into a form, so that sending it unchanged changes
+// nothing, or an expert's value a hair from its neighbour or a bound,
+// which rounded would read as equal to it. Plain decimals from 1e-9 up to
+// 1e15, as the pages write numbers; outside, the exponent notation of
+// FormatValue ("9.999999999999999e299", no "+"), since a plain decimal
+// would run to hundreds of digits and past what a form's box takes.
+func FormatExact(v float64) string {
+	if math.IsNaN(v) || math.IsInf(v, 0) {
+		return "not available"
+	}
+	if a := math.Abs(v); v == 0 || a >= 1e-9 && a < 1e15 {
+		return strconv.FormatFloat(v, 'f', -1, 64)
+	}
+	e := strconv.FormatFloat(v, 'e', -1, 64) // [-]d[.ddd]e±XX
+	n := strings.IndexByte(e, 'e') - strings.Count(e[:strings.IndexByte(e, 'e')], ".") - strings.Count(e[:1], "-")
+	return formatSigFixedFrom(v, n, -9)
+}
+
 // FormatPercent writes a probability as a percentage without noise:
 // 0.05 → "5%", 0.025 → "2.5%", 0.33333 → "33.3%". A probability that four
 // figures write exactly keeps them, so a probability a question asks is

@@ -335,3 +335,39 @@ func TestFormatChanceBoundsAFarTail(t *testing.T) {
 		t.Errorf("FormatPercent(0.9999999) = %q, want 99.99999%%", got)
 	}
 }
+
+// TestFormatExactReadsBackAndReadsPlain: FormatExact keeps every figure
+// (strconv.ParseFloat reads each text back as the very double, the
+// round-trip property of the shortest decimal), writes plain decimals from
+// 1e-9 to 1e15 and elsewhere the pages' exponent form without "+"; %g
+// wrote 1e-07 and 9.999999999999999e+299.
+func TestFormatExactReadsBackAndReadsPlain(t *testing.T) {
+	for _, c := range []struct {
+		v    float64
+		want string
+	}{
+		{0, "0"}, {1e-7, "0.0000001"}, {-2.5e-9, "-0.0000000025"}, {12345678, "12345678"},
+		{0.1, "0.1"}, {1e14, "100000000000000"}, {1e300, "1e300"}, {-1.5e-12, "-1.5e-12"},
+		{math.Nextafter(1e300, 0), "9.999999999999999e299"}, {5e-324, "5e-324"},
+		{math.Nextafter(0.04, 1), "0.04000000000000001"},
+	} {
+		if got := FormatExact(c.v); got != c.want {
+			t.Errorf("FormatExact(%v) = %q, want %q", c.v, got, c.want)
+		}
+	}
+	r := rand.New(rand.NewPCG(7, 11))
+	for range 20000 {
+		v := math.Float64frombits(r.Uint64())
+		if math.IsNaN(v) || math.IsInf(v, 0) {
+			continue
+		}
+		s := FormatExact(v)
+		back, err := strconv.ParseFloat(s, 64)
+		if err != nil || back != v {
+			t.Fatalf("FormatExact(%v) = %q reads back as %v (%v)", v, s, back, err)
+		}
+		if strings.Contains(s, "+") || (math.Abs(v) >= 1e-9 && math.Abs(v) < 1e15 && strings.Contains(s, "e")) {
+			t.Fatalf("FormatExact(%v) = %q: not the pages' form", v, s)
+		}
+	}
+}
