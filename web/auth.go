@@ -194,7 +194,7 @@ func (s *Server) requireFacilitator(next http.Handler) http.Handler {
 			return
 		}
 		if ok {
-			next.ServeHTTP(w, r)
+			next.ServeHTTP(w, r.WithContext(context.WithValue(r.Context(), facilitatorKey{}, true)))
 			return
 		}
 		if r.Method == http.MethodGet || r.Method == http.MethodHead {
@@ -207,6 +207,20 @@ func (s *Server) requireFacilitator(next http.Handler) http.Handler {
 }
 
 type expertKey struct{}
+
+// facilitatorKey marks a request requireFacilitator let through, so that
+// the pages any handler may end on (a refusal, not found, a server error)
+// keep the facilitator's menu: the refusal page had no way on but its
+// one link back.
+type facilitatorKey struct{}
+
+// shell is the page shell of such a page titled title: with the
+// facilitator's menu on a facilitator's request, bare of it on an
+// expert's or a stranger's.
+func shell(r *http.Request, title string) pageMeta {
+	fac, _ := r.Context().Value(facilitatorKey{}).(bool)
+	return pageMeta{Title: title, Facilitator: fac}
+}
 
 // expertFrom returns the expert whose private link the request came
 // through. Only handlers mounted under /e/{token} may call it.

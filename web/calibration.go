@@ -337,7 +337,7 @@ func scaleValue(log bool) string {
 // page offers neither form for it) on a page of its own, since the
 // calibration page has no card where the refusal could stand.
 func (s *Server) notCalibration(w http.ResponseWriter, r *http.Request, q workshop.Question) {
-	s.renderPage(w, r, http.StatusUnprocessableEntity, pageMeta{Title: "Not a calibration question"},
+	s.renderPage(w, r, http.StatusUnprocessableEntity, shell(r, "Not a calibration question"),
 		messagePage("Not a calibration question", "Q"+strconv.Itoa(q.Position)+" ("+q.Quantity+") is not a calibration question, so it takes no true value and its answers are not scored. Nothing was saved."))
 }
 

@@ -5,6 +5,7 @@ import (
 	"net/http"
 	"net/http/httptest"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -49,6 +50,10 @@ func TestRefusalPageSaysWhatHappened(t *testing.T) {
 		"<dt>Rule</dt><dd>" + string(workshop.RuleRoundSequence),
 		"Go back with your browser's Back button: what you typed is still in the form there. Or open",
 		`<a href="` + workshopPath(ws.ID) + `">the workshop's overview</a>`,
+		// The facilitator's menu, as on every facilitator's page: the
+		// refusal had no way on but its one link back.
+		`<nav class="nav" aria-label="Facilitator">`,
+		`action="/signout"`,
 	} {
 		if !strings.Contains(page, want) {
 			t.Errorf("the refusal lacks %q:\n%s", want, excerpt(page, "<main"))
@@ -97,6 +102,25 @@ func TestRefusalPageForAnAddress(t *testing.T) {
 		}
 		if got.Field != "alpha" || got.Rule != string(elicit.RuleUnitInterval) {
 			t.Errorf("%s %s names %q and %q", c.method, c.path, got.Field, got.Rule)
+		}
+	}
+}
+
+// TestRefusalOnAnExpertsLinkHasNoFacilitatorMenu: the refusal an expert
+// reaches through their private link, and a 404 past it, never carry the
+// facilitator's menu, which only the facilitator's requests are given.
+func TestRefusalOnAnExpertsLinkHasNoFacilitatorMenu(t *testing.T) {
+	h, _, qs, _, links := seeded(t)
+	for _, path := range []string{
+		links[0].Path + "q/" + strconv.FormatInt(qs[0].ID, 10) + "/save",
+		links[0].Path + "q/999999",
+	} {
+		res, page := h.get(path)
+		if res.StatusCode < 400 {
+			t.Errorf("%s: %d, want a refusal", path, res.StatusCode)
+		}
+		if strings.Contains(page, `aria-label="Facilitator"`) || strings.Contains(page, "/signout") {
+			t.Errorf("%s: an expert's page carries the facilitator's menu:\n%s", path, excerpt(page, "<header"))
 		}
 	}
 }

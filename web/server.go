@@ -175,7 +175,7 @@ func (s *Server) renderPage(w http.ResponseWriter, r *http.Request, status int, 
 
 // notFound answers 404 with a page that says nothing about why.
 func (s *Server) notFound(w http.ResponseWriter, r *http.Request) {
-	s.renderPage(w, r, http.StatusNotFound, pageMeta{Title: "Not found"},
+	s.renderPage(w, r, http.StatusNotFound, shell(r, "Not found"),
 		messagePage("Not found", "There is nothing at this address."))
 }
 
@@ -189,19 +189,19 @@ func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 		s.notFound(w, r)
 	case errors.As(err, &ie):
 		v := newRefusal(r, ie)
-		s.renderPage(w, r, http.StatusBadRequest, pageMeta{Title: v.Title}, refusalPage(v))
+		s.renderPage(w, r, http.StatusBadRequest, shell(r, v.Title), refusalPage(v))
 	case errors.Is(err, workshop.ErrRetired):
-		s.renderPage(w, r, http.StatusGone, pageMeta{Title: "Question withdrawn"},
+		s.renderPage(w, r, http.StatusGone, shell(r, "Question withdrawn"),
 			messagePage("Question withdrawn", "The facilitator has withdrawn this question, so it takes no answers. Your other questions are on your own page; your private link still works."))
 	case errors.Is(err, workshop.ErrRoundClosed):
-		s.renderPage(w, r, http.StatusConflict, pageMeta{Title: "Round closed"},
+		s.renderPage(w, r, http.StatusConflict, shell(r, "Round closed"),
 			messagePage("Round closed", "The round is closed, so nothing was saved."))
 	case errors.Is(err, context.Canceled) || r.Context().Err() != nil:
 		// The client went away; nothing to answer.
 		s.logFailure(r, "request", err)
 	default:
 		s.logFailure(r, "request", err)
-		s.renderPage(w, r, http.StatusInternalServerError, pageMeta{Title: "Server error"},
+		s.renderPage(w, r, http.StatusInternalServerError, shell(r, "Server error"),
 			messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 	}
 }
@@ -305,7 +305,7 @@ func (s *Server) recoverPanics(next http.Handler) http.Handler {
 				panic(v)
 			}
 			s.logFailure(r, "panic", fmt.Errorf("%v", v), "stack", string(debug.Stack()))
-			s.renderPage(w, r, http.StatusInternalServerError, pageMeta{Title: "Server error"},
+			s.renderPage(w, r, http.StatusInternalServerError, shell(r, "Server error"),
 				messagePage("Server error", "Something went wrong on the server; nothing further was saved. The details are in the server log."))
 		}()
 		next.ServeHTTP(w, r)
