@@ -220,6 +220,21 @@ func (v workshopView) activeQuestions() []workshop.Question {
 	return out
 }
 
+// maxAnswerColumns is how many columns of answers the who-answered-what
+// table sets side by side before it turns: at 1366 px the invented demo's
+// six questions read well, and eleven broke "carried from round 1" over
+// three or four lines in columns a word wide.
+const maxAnswerColumns = 7
+
+// questionsAsRows reports whether the who-answered-what table gives each
+// question a row and each expert a column: when the questions would be
+// more columns than fit and the experts fewer than the questions. A
+// panel of many experts keeps a row each.
+func (v workshopView) questionsAsRows() bool {
+	n := len(v.activeQuestions())
+	return n > maxAnswerColumns && n > len(v.Experts)
+}
+
 func (v workshopView) hasRevoked() bool {
 	for _, e := range v.Experts {
 		if e.Revoked {
