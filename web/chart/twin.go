@@ -31,6 +31,9 @@ type layout struct {
 	NoteLine                                            float64 // a note line's height
 	NoteX                                               float64 // where notes start
 	TitleChars                                          int     // characters per line of the x axis's title
+	// YTitleX is where the plots' upright titles stand, both at one x,
+	// unless labels level with either push them left (yTitleX).
+	YTitleX float64
 }
 
 // width is the layout's viewBox width.
@@ -39,11 +42,11 @@ func (l layout) width() float64 { return l.Left + l.PlotW + l.Right }
 var (
 	// wideLayout is the picture at a desk or on a projector.
 	wideLayout = layout{Name: "wide", Left: 70, PlotW: 540, Right: 30, Top: 34, DensityH: 140, Gap: 36, CDFH: 170, Below: 60,
-		XTicks: 6, LegendCols: 2, NoteChars: 92, NoteLine: 15, NoteX: 70, TitleChars: 72}
+		XTicks: 6, LegendCols: 2, NoteChars: 92, NoteLine: 15, NoteX: 70, TitleChars: 72, YTitleX: 20}
 	// compactLayout is 360 units wide, about a phone's width, with fewer
 	// ticks, the legend in one column and notes wrapped.
 	compactLayout = layout{Name: "compact", Left: 64, PlotW: 278, Right: 18, Top: 44, DensityH: 108, Gap: 30, CDFH: 128, Below: 62,
-		XTicks: 4, LegendCols: 1, NoteChars: 44, NoteLine: 17, NoteX: 8, TitleChars: 36}
+		XTicks: 4, LegendCols: 1, NoteChars: 44, NoteLine: 17, NoteX: 8, TitleChars: 36, YTitleX: 15}
 	// layouts are both, in the order the page carries them.
 	layouts = [...]layout{wideLayout, compactLayout}
 )
@@ -229,12 +232,13 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	top = snapTop(top * 1.08)
 	dens.Y1 = top
 	g.DensityTop = top
-	// Density labels too wide to stand beside the upright title (0.0010
-	// an hour on [0, 10000], 15000 for a rare event) take their room from
-	// the plot, as the study's picture does for its labels; the picture
-	// keeps its width. The room depends on the layout and top alone, which
-	// key the remembered frames and paths.
-	if need := yTitleRoom - yLabelsLeft(dens, ticks(0, top, densityTicksN), "density", lay.Name); need > 0 {
+	// Labels too wide to stand beside the upright titles (a density of
+	// 0.0010 an hour on [0, 10000], 15000 for a rare event; "100%" on a
+	// phone) take their room from the plots, as the study's picture does
+	// for its labels; the picture keeps its width. The room depends on the
+	// layout and top alone, which key the remembered frames and paths.
+	if need := yTitleRoom - min(yLabelsLeft(dens, ticks(0, top, densityTicksN), "density", lay.Name),
+		yLabelsLeft(cumul, chanceTicks(), "chance below", lay.Name)); need > 0 {
 		need = math.Ceil(need)
 		lay.Left += need
 		lay.PlotW -= need
@@ -387,12 +391,13 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 		percent = func(t tick) string { return FormatPercent(t.Value) }
 	}
 	g.XTicks = xTicks(x0, x1, lay.XTicks, dens.px, percent, tickLabelPx(lay.Name), lay.width())
-	g.Density = yAxes(lay, dens, ticks(0, top, densityTicksN), "density", "chart-density")
-	var pt []tick
-	for _, p := range []float64{0, 0.25, 0.5, 0.75, 1} {
-		pt = append(pt, tick{Value: p, Label: FormatPercent(p)})
-	}
-	g.Cumul = yAxes(lay, cumul, pt, "chance below", "chart-cdf")
+	dt, ct := ticks(0, top, densityTicksN), chanceTicks()
+	// One x for both upright titles, clear of the labels level with
+	// either (newTwinIn leaves the room).
+	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, "density", lay.Name)-yTitleGap-yDescent*yTitlePx,
+		yLabelsLeft(cumul, ct, "chance below", lay.Name)-yTitleGap-yDescent*yTitlePx)
+	g.Density = yAxes(dens, dt, "density", "chart-density", tx)
+	g.Cumul = yAxes(cumul, ct, "chance below", "chart-cdf", tx)
 	g.XLabelY = coord(cumul.bottom() + 18)
 	g.XTitle = axisTitle(k.quantity, k.units)
 	g.XTitleX = coord(cumul.Left + cumul.Width/2)
@@ -555,7 +560,9 @@ func expertIndex(curves []Curve, i int) int {
 	return n
 }
 
-func yAxes(lay layout, f frame, ts []tick, title, class string) axesGeom {
+// yAxes lays out the plot area f with its y ticks ts and its upright
+// title at x = tx.
+func yAxes(f frame, ts []tick, title, class string, tx float64) axesGeom {
 	a := axesGeom{
 		X: coord(f.Left), Y: coord(f.Top), W: coord(f.Width), H: coord(f.Height),
 		Right: coord(f.right()), Bottom: coord(f.bottom()),
@@ -564,15 +571,19 @@ func yAxes(lay layout, f frame, ts []tick, title, class string) axesGeom {
 	for _, t := range ts {
 		a.YTicks = append(a.YTicks, tickGeom{Pos: coord(f.py(t.Value)), Label: t.Label, Value: t.Label})
 	}
-	tx, ty := f.Left-lay.Left*5/7, f.Top+f.Height/2
-	if lay.Name == compactLayout.Name {
-		tx = 15 // the title against the edge, the ticks' labels beside it
-	}
-	// Clear of the labels level with it (newTwinIn leaves the room).
-	tx = min(tx, yLabelsLeft(f, ts, title, lay.Name)-yTitleGap-yDescent*yTitlePx)
+	ty := f.Top + f.Height/2
 	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
 	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	return a
+}
+
+// chanceTicks are the chance axis's ticks, every 25%.
+func chanceTicks() []tick {
+	var pt []tick
+	for _, p := range []float64{0, 0.25, 0.5, 0.75, 1} {
+		pt = append(pt, tick{Value: p, Label: FormatPercent(p)})
+	}
+	return pt
 }
 
 // The y axes' labels and title at the largest sizes a stylesheet draws
