@@ -40,12 +40,12 @@ func TestEntryPreviewNamesTheExpert(t *testing.T) {
 	_, frag := h.post(page+"/preview?fragment=1", form)
 	frag = html.UnescapeString(frag)
 	// The picture's key, table and caption name her too.
-	for _, want := range []string{"Priya Raman's stated values", "Priya Raman said", "fitted to Priya Raman's judgement"} {
+	for _, want := range []string{"Priya Raman's answers", "Priya Raman said", "best matches Priya Raman's answers", "Priya Raman gave a chance of"} {
 		if !strings.Contains(frag, want) {
 			t.Errorf("entry picture lacks %q", want)
 		}
 	}
-	for _, you := range []string{"your stated values", "you said", "below yours", "Your stated points"} {
+	for _, you := range []string{"your answers", "you said", "below yours", "you gave", "you think"} {
 		if strings.Contains(frag, you) {
 			t.Errorf("entry picture says %q", you)
 		}

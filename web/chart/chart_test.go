@@ -208,7 +208,7 @@ func TestFitCaptionSaysTheNumbers(t *testing.T) {
 	}
 	for _, want := range []string{
 		FormatValue(v.Percentiles[0]), FormatValue(v.Percentiles[1]), FormatValue(v.Percentiles[2]),
-		"Failure rate (per demand)", "Beta(α = 4.2, β = 17.9)", "5% chance below 0.06", "50% chance below 0.18",
+		"Failure rate (per demand)", "Beta(α = 4.2, β = 17.9)", "a chance of 5% below 0.06, the curve", "; 50% below 0.18, the curve",
 	} {
 		if !strings.Contains(caps[0].Text, want) {
 			t.Errorf("caption lacks %q: %s", want, caps[0].Text)
@@ -488,7 +488,7 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 	if !hasCell(plain, "0.06") {
 		t.Error("decimals: lacks a cell 0.06")
 	}
-	for _, want := range []string{"median " + FormatWithin(d.Quantile(0.5), 0, 1, false) + "<", "your stated values", "you said", "fitted chance below yours", "fitted to your judgement", "Your stated points"} {
+	for _, want := range []string{"median " + FormatWithin(d.Quantile(0.5), 0, 1, false) + "<", "your answers", "you said", "the curve&#39;s chance below yours", "best matches your answers", "you gave a chance of"} {
 		if !strings.Contains(plain, want) {
 			t.Errorf("decimals: lacks %q", want)
 		}
@@ -500,7 +500,7 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 			t.Errorf("percent: lacks a cell %q", want)
 		}
 	}
-	for _, want := range []string{"median " + FormatWithin(d.Quantile(0.5), 0, 1, true) + "<", ">" + FormatWithin(d.Quantile(0.95), 0, 1, true) + "</td>", "5% chance below 6%"} {
+	for _, want := range []string{"median " + FormatWithin(d.Quantile(0.5), 0, 1, true) + "<", ">" + FormatWithin(d.Quantile(0.95), 0, 1, true) + "</td>", "a chance of 5% below 6%"} {
 		if !strings.Contains(pct, want) {
 			t.Errorf("percent: lacks %q", want)
 		}
@@ -517,12 +517,12 @@ func TestFitSpeaksInTheExpertsUnitAndPerson(t *testing.T) {
 	}
 	v.Whose = "Priya Raman"
 	named := render(v)
-	for _, want := range []string{"Priya Raman&#39;s stated values", "Priya Raman said", "fitted chance below that", "fitted to Priya Raman&#39;s judgement", "Priya Raman&#39;s stated points"} {
+	for _, want := range []string{"Priya Raman&#39;s answers", "Priya Raman said", "the curve&#39;s chance below that", "best matches Priya Raman&#39;s answers", "Priya Raman gave a chance of", "Priya Raman thinks"} {
 		if !strings.Contains(named, want) {
 			t.Errorf("on behalf: lacks %q", want)
 		}
 	}
-	for _, you := range []string{"your ", "you said", "Your ", "yours"} {
+	for _, you := range []string{"your ", "you said", "Your ", "yours", "you think", "you gave"} {
 		if strings.Contains(named, you) {
 			t.Errorf("on behalf: still says %q", you)
 		}

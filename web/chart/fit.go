@@ -56,6 +56,30 @@ func (v FitView) whose(capital bool) string {
 	return "your"
 }
 
+// who is "you" on the expert's own page, else the expert's name.
+func (v FitView) who() string {
+	if v.Whose != "" {
+		return v.Whose
+	}
+	return "you"
+}
+
+// thinks is "you think" on the expert's own page, else "<name> thinks".
+func (v FitView) thinks() string {
+	if v.Whose != "" {
+		return v.Whose + " thinks"
+	}
+	return "you think"
+}
+
+// fitWords are the words of the expert's own picture, written for an
+// expert in the subject rather than in statistics: the upper plot shows
+// how likely each value is, and a curve rises above its top only at a
+// bound, where the expert's answers put the most likely values.
+var fitWords = twinWords{Upper: "how likely", Lower: "chance below", Cut: func(top, _ string) string {
+	return "Near a bound the upper curve rises above the top of the chart (cut at " + top + ")."
+}}
+
 // percentileProbs are the probabilities of FitView.Percentiles.
 var percentileProbs = [3]float64{0.05, 0.5, 0.95}
 
@@ -95,7 +119,9 @@ type fitModel struct {
 	Rows     []fitRow
 	Pcts     [3]string
 	Params   string
-	// The words that name whose judgement it is: the key's, and the
+	// Caption is the table's caption, which names the Beta.
+	Caption string
+	// The words that name whose answers they are: the key's, and the
 	// table's two headers.
 	KeyStated, SaidHeader, ChanceHeader string
 	Units                               string
@@ -104,7 +130,11 @@ type fitModel struct {
 
 // Fit draws the density and CDF of one expert's fitted Beta with their
 // stated points on the CDF, the fitted 5/50/95 percentiles marked, and a
-// table of stated against fitted numbers.
+// table of stated against fitted numbers. Its words (fitWords, the key,
+// the caption and the table) are the expert's, not a statistician's: the
+// curve that best matches their answers, how close it comes to each, and
+// its 5%, middle and 95% points; the Beta's parameters come last, for the
+// facilitator who reads the same picture.
 func Fit(v FitView) templ.Component {
 	return fitFigure(newFitModel(v))
 }
@@ -127,12 +157,12 @@ func newFitModel(v FitView) fitModel {
 	for _, p := range v.Points {
 		xs = append(xs, p.X)
 	}
-	c := Curve{Label: "the fitted Beta near a bound", Role: RoleExpert, Dist: v.Dist, Percentiles: &v.Percentiles}
+	c := Curve{Label: "the best-matching curve", Role: RoleExpert, Dist: v.Dist, Percentiles: &v.Percentiles}
 	// The percentiles are one range, written to figures that keep them
 	// apart, in the caption, the table and the labels alike.
 	copy(m.Pcts[:], FormatRangeWithin(v.Percentiles[:], v.Lower, v.Upper, v.Percent))
 	for i, lay := range layouts {
-		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
+		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, fitWords, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}
@@ -163,13 +193,14 @@ func newFitModel(v FitView) fitModel {
 	for i, text := range FormatRangeWithin(fitted, v.Lower, v.Upper, v.Percent) {
 		m.Rows[i].Fitted = text
 	}
-	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your stated values", "you said", "fitted chance below yours"
+	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your answers", "you said", "the curve's chance below yours"
 	if v.Whose != "" {
-		m.KeyStated, m.SaidHeader, m.ChanceHeader = v.Whose+"'s stated values", v.Whose+" said", "fitted chance below that"
+		m.KeyStated, m.SaidHeader, m.ChanceHeader = v.Whose+"'s answers", v.Whose+" said", "the curve's chance below that"
 	}
 
 	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatShape(v.Dist.Alpha), FormatShape(v.Dist.Beta.Beta))
-	m.Title = fmt.Sprintf("Fitted %s for %s", m.Params, axisTitle(v.Quantity, v.Units))
+	m.Caption = fmt.Sprintf("%s answers and the curve, %s", v.whose(true), m.Params)
+	m.Title = fmt.Sprintf("%s answers on %s and the curve that best matches them", v.whose(true), axisTitle(v.Quantity, v.Units))
 	m.Desc = fitDescription(v, m, g)
 	return m
 }
@@ -304,24 +335,29 @@ func fitMarks(v FitView, g twinGeom, pcts [3]string) []markGeom {
 }
 
 // fitDescription says in words what the picture shows, for the caption and
-// screen readers.
+// screen readers: what the two curves are, their 5%, middle and 95%
+// points, how close the curve comes to each answer, the notes on the
+// axes, and last the Beta's parameters.
 func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "%s fitted to %s judgement of %s, between the bounds %s and %s. ",
-		m.Params, v.whose(false), axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
-	fmt.Fprintf(&b, "Fitted percentiles: 5th %s, median %s, 95th %s. ",
+	fmt.Fprintf(&b, "The picture shows the smooth curve that best matches %s answers on %s, between the bounds %s and %s. ",
+		v.whose(false), axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
+	fmt.Fprintf(&b, "The upper curve is higher where %s the value more likely; the lower one gives the chance of a value below each point. ", v.thinks())
+	fmt.Fprintf(&b, "The curve's 5%% point is %s, its middle (the median) %s and its 95%% point %s. ",
 		m.Pcts[0], m.Pcts[1], m.Pcts[2])
 	if len(m.Rows) > 0 {
 		parts := make([]string, len(m.Rows))
 		for i, r := range m.Rows {
-			parts[i] = fmt.Sprintf("%s chance below %s (fitted curve: %s)", r.Chance, r.Stated, r.FittedChance)
+			parts[i] = fmt.Sprintf("%s below %s, the curve %s", r.Chance, r.Stated, r.FittedChance)
 		}
-		fmt.Fprintf(&b, "%s stated points, marked as circles on the lower curve: %s. ", v.whose(true), strings.Join(parts, "; "))
+		fmt.Fprintf(&b, "How close the curve comes to %s answers (the circles on the lower curve): %s gave a chance of %s. ",
+			v.whose(false), v.who(), strings.Join(parts, "; "))
 	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")
 	}
-	return strings.TrimSpace(b.String())
+	fmt.Fprintf(&b, "In statistical terms the curve is %s.", m.Params)
+	return b.String()
 }
 
 // percentileLabelPx is the fit's percentile labels' font size in a

@@ -51,7 +51,7 @@ func TestFitTableNamesItsPercentileBlock(t *testing.T) {
 		t.Fatalf("percentile block has %d header cells, want a heading and 3 rows", len(block))
 	}
 	h := block[0]
-	if h.Text != "Fitted 5%, median and 95%" || h.Attr["scope"] != "rowgroup" || h.Attr["colspan"] != "4" || cols != 4 {
+	if h.Text != "The curve's 5%, middle (median) and 95% points" || h.Attr["scope"] != "rowgroup" || h.Attr["colspan"] != "4" || cols != 4 {
 		t.Errorf("block heading %q scope %q colspan %q (table has %d columns)", h.Text, h.Attr["scope"], h.Attr["colspan"], cols)
 	}
 	for i, want := range []string{"5%", "50% (median)", "95%"} {
@@ -80,8 +80,8 @@ func TestChartTablesLabelEachNumberWithItsColumn(t *testing.T) {
 		labels []string // of the columns, "" where a cell carries none
 		rows   int
 	}{
-		{"the expert's fit", render(t, Fit(mine)), []string{"chance below", "you said", "fitted value", "fitted chance below yours"}, 3},
-		{"the fit entered for an expert", render(t, Fit(theirs)), []string{"chance below", "Priya Raman said", "fitted value", "fitted chance below that"}, 3},
+		{"the expert's fit", render(t, Fit(mine)), []string{"chance below", "you said", "the curve says", "the curve's chance below yours"}, 3},
+		{"the fit entered for an expert", render(t, Fit(theirs)), []string{"chance below", "Priya Raman said", "the curve says", "the curve's chance below that"}, 3},
 		{"the panel", render(t, Panel(panel)), []string{"", "", "5%", "median", "95%"}, 2},
 	} {
 		ns := parse(t, c.html)

@@ -304,7 +304,7 @@ func fitFigure(m fitModel) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 25, "</span> <span class=\"key-item\"><svg class=\"chart-key-icon\" viewBox=\"0 0 16 16\" width=\"16\" height=\"16\"><line x1=\"8\" x2=\"8\" y1=\"0\" y2=\"16\" stroke=\"#4d4d4d\" stroke-width=\"1.5\" stroke-dasharray=\"4 3\"></line></svg>fitted 5%, median and 95%</span> <span class=\"key-item\"><svg class=\"chart-key-icon\" viewBox=\"0 0 28 16\" width=\"28\" height=\"16\"><line x1=\"0\" x2=\"28\" y1=\"8\" y2=\"8\" stroke=\"#0072B2\" stroke-width=\"2\"></line></svg>fitted Beta</span></p><figcaption>")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 25, "</span> <span class=\"key-item\"><svg class=\"chart-key-icon\" viewBox=\"0 0 16 16\" width=\"16\" height=\"16\"><line x1=\"8\" x2=\"8\" y1=\"0\" y2=\"16\" stroke=\"#4d4d4d\" stroke-width=\"1.5\" stroke-dasharray=\"4 3\"></line></svg>the curve's 5%, median and 95% points</span> <span class=\"key-item\"><svg class=\"chart-key-icon\" viewBox=\"0 0 28 16\" width=\"28\" height=\"16\"><line x1=\"0\" x2=\"28\" y1=\"8\" y2=\"8\" stroke=\"#0072B2\" stroke-width=\"2\"></line></svg>the best-matching curve</span></p><figcaption>")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -322,9 +322,9 @@ func fitFigure(m fitModel) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var21 string
-			templ_7745c5c3_Var21, templ_7745c5c3_Err = templ.JoinStringErrs(m.Params)
+			templ_7745c5c3_Var21, templ_7745c5c3_Err = templ.JoinStringErrs(m.Caption)
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 35, Col: 23}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 35, Col: 24}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var21))
 			if templ_7745c5c3_Err != nil {
@@ -343,14 +343,14 @@ func fitFigure(m fitModel) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 28, "</th><th scope=\"col\" role=\"columnheader\">fitted value</th><th scope=\"col\" role=\"columnheader\">")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 28, "</th><th scope=\"col\" role=\"columnheader\">the curve says</th><th scope=\"col\" role=\"columnheader\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
 			var templ_7745c5c3_Var23 string
 			templ_7745c5c3_Var23, templ_7745c5c3_Err = templ.JoinStringErrs(m.ChanceHeader)
 			if templ_7745c5c3_Err != nil {
-				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 37, Col: 235}
+				return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 37, Col: 237}
 			}
 			_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var23))
 			if templ_7745c5c3_Err != nil {
@@ -400,14 +400,14 @@ func fitFigure(m fitModel) templ.Component {
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
-				templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 33, "</td><td data-label=\"fitted value\" role=\"cell\">")
+				templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 33, "</td><td data-label=\"the curve says\" role=\"cell\">")
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var27 string
 				templ_7745c5c3_Var27, templ_7745c5c3_Err = templ.JoinStringErrs(r.Fitted)
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 193}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 195}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var27))
 				if templ_7745c5c3_Err != nil {
@@ -420,7 +420,7 @@ func fitFigure(m fitModel) templ.Component {
 				var templ_7745c5c3_Var28 string
 				templ_7745c5c3_Var28, templ_7745c5c3_Err = templruntime.NewAttributeExpression(m.ChanceHeader).Resolve(ctx)
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 231}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 233}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ_7745c5c3_Var28)
 				if templ_7745c5c3_Err != nil {
@@ -433,7 +433,7 @@ func fitFigure(m fitModel) templ.Component {
 				var templ_7745c5c3_Var29 string
 				templ_7745c5c3_Var29, templ_7745c5c3_Err = templ.JoinStringErrs(r.FittedChance)
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 262}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/chart/fit.templ`, Line: 41, Col: 264}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var29))
 				if templ_7745c5c3_Err != nil {
@@ -444,7 +444,7 @@ func fitFigure(m fitModel) templ.Component {
 					return templ_7745c5c3_Err
 				}
 			}
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 37, "</tbody> <tbody class=\"chart-table-percentiles\" role=\"rowgroup\"><tr role=\"row\"><th scope=\"rowgroup\" colspan=\"4\" class=\"chart-table-group\" role=\"rowheader\">Fitted 5%, median and 95%</th></tr><tr role=\"row\"><th scope=\"row\" role=\"rowheader\">5%</th><td role=\"cell\"></td><td role=\"cell\">")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 37, "</tbody> <tbody class=\"chart-table-percentiles\" role=\"rowgroup\"><tr role=\"row\"><th scope=\"rowgroup\" colspan=\"4\" class=\"chart-table-group\" role=\"rowheader\">The curve's 5%, middle (median) and 95% points</th></tr><tr role=\"row\"><th scope=\"row\" role=\"rowheader\">5%</th><td role=\"cell\"></td><td role=\"cell\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -132,7 +132,7 @@ func PanelNotes(v PanelView) []string {
 	if len(curves) == 0 {
 		return nil
 	}
-	return newTwinIn(wideLayout, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
+	return newTwinIn(wideLayout, densityWords, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
 }
 
 func newPanelModel(v PanelView) panelModel {
@@ -151,7 +151,7 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	for i, lay := range layouts {
-		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
+		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, densityWords, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}

@@ -36,7 +36,7 @@ func TestFitPictureWritesANarrowRangeApart(t *testing.T) {
 		t.Fatal(m.Invalid)
 	}
 	distinctTexts(t, "percentiles", v.Percentiles[:], m.Pcts[:])
-	if want := "5th " + m.Pcts[0] + ", median " + m.Pcts[1] + ", 95th " + m.Pcts[2]; !strings.Contains(m.Desc, want) {
+	if want := "5% point is " + m.Pcts[0] + ", its middle (the median) " + m.Pcts[1] + " and its 95% point " + m.Pcts[2]; !strings.Contains(m.Desc, want) {
 		t.Errorf("caption %q lacks %q", m.Desc, want)
 	}
 	var stated, fitted []float64

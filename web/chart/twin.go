@@ -142,7 +142,9 @@ type frameKey struct {
 	quantity, units string
 	lower, upper    float64
 	x0, x1, top     float64
-	clipped         string // the labels of curves cut at the top, as a prose list
+	upperTitle      string // the plots' upright titles (twinWords)
+	lowerTitle      string
+	cut             string // the note on curves cut at the top, "" when none is
 	percent         bool   // the x axis's numbers as percentages
 }
 
@@ -158,21 +160,39 @@ func axisTitle(quantity, units string) string {
 	return q
 }
 
+// twinWords are the words a twin writes for its reader: the plots'
+// upright titles, and the note under a picture whose curves are cut at
+// the upper plot's top.
+type twinWords struct {
+	Upper, Lower string
+	// Cut writes the note on curves cut at top (written as a number):
+	// names lists them.
+	Cut func(top, names string) string
+}
+
+// densityWords are the statistician's words, for the facilitator's
+// pictures of several curves.
+var densityWords = twinWords{Upper: "density", Lower: "chance below", Cut: func(top, names string) string {
+	return fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.", top, names)
+}}
+
 // noteLine is one drawn line of the notes under a twin.
 type noteLine struct {
 	Text, Y string
 }
 
-// newTwin lays out curves over [lower, upper] in layout lay. Extra x
-// values (stated points) are kept inside the window.
+// newTwin lays out curves over [lower, upper] in layout lay, in
+// densityWords. Extra x values (stated points) are kept inside the
+// window.
 func newTwin(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area bool) twinGeom {
-	return newTwinIn(lay, quantity, units, lower, upper, curves, extra, area, false)
+	return newTwinIn(lay, densityWords, quantity, units, lower, upper, curves, extra, area, false)
 }
 
-// newTwinIn is newTwin with the x axis's numbers (its ticks and the notes
-// under it) written as percentages when percent is set: for an expert
-// who typed their judgement of a proportion in percentages.
-func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area, percent bool) twinGeom {
+// newTwinIn is newTwin in the words w, with the x axis's numbers (its
+// ticks and the notes under it) written as percentages when percent is
+// set: for an expert who typed their judgement of a proportion in
+// percentages.
+func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper float64, curves []Curve, extra []float64, area, percent bool) twinGeom {
 	sp := make([]curveSpan, len(curves))
 	valid := make([]bool, len(curves))
 	var tails [][2]float64
@@ -237,8 +257,8 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	// phone) take their room from the plots, as the study's picture does
 	// for its labels; the picture keeps its width. The room depends on the
 	// layout and top alone, which key the remembered frames and paths.
-	if need := yTitleRoom - min(yLabelsLeft(dens, ticks(0, top, densityTicksN), "density", lay.Name),
-		yLabelsLeft(cumul, chanceTicks(), "chance below", lay.Name)); need > 0 {
+	if need := yTitleRoom - min(yLabelsLeft(dens, ticks(0, top, densityTicksN), w.Upper, lay.Name),
+		yLabelsLeft(cumul, chanceTicks(), w.Lower, lay.Name)); need > 0 {
 		need = math.Ceil(need)
 		lay.Left += need
 		lay.PlotW -= need
@@ -315,7 +335,10 @@ func newTwinIn(lay layout, quantity, units string, lower, upper float64, curves 
 	}
 
 	key := frameKey{layout: lay.Name, quantity: quantity, units: units, lower: lower, upper: upper,
-		x0: x0, x1: x1, top: top, clipped: proseList(g.ClippedBy), percent: percent}
+		x0: x0, x1: x1, top: top, upperTitle: w.Upper, lowerTitle: w.Lower, percent: percent}
+	if len(g.ClippedBy) > 0 {
+		key.cut = w.Cut(formatSig(top, 3), proseList(g.ClippedBy))
+	}
 	g.twinFrame = remembered.frames.Get(key, func() twinFrame { return newTwinFrame(lay, key, dens, cumul) })
 	return g
 }
@@ -394,10 +417,10 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	dt, ct := ticks(0, top, densityTicksN), chanceTicks()
 	// One x for both upright titles, clear of the labels level with
 	// either (newTwinIn leaves the room).
-	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, "density", lay.Name)-yTitleGap-yDescent*yTitlePx,
-		yLabelsLeft(cumul, ct, "chance below", lay.Name)-yTitleGap-yDescent*yTitlePx)
-	g.Density = yAxes(dens, dt, "density", "chart-density", tx)
-	g.Cumul = yAxes(cumul, ct, "chance below", "chart-cdf", tx)
+	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, k.upperTitle, lay.Name)-yTitleGap-yDescent*yTitlePx,
+		yLabelsLeft(cumul, ct, k.lowerTitle, lay.Name)-yTitleGap-yDescent*yTitlePx)
+	g.Density = yAxes(dens, dt, k.upperTitle, "chart-density", tx)
+	g.Cumul = yAxes(cumul, ct, k.lowerTitle, "chart-cdf", tx)
 	g.XLabelY = coord(cumul.bottom() + 18)
 	g.XTitle = axisTitle(k.quantity, k.units)
 	g.XTitleX = coord(cumul.Left + cumul.Width/2)
@@ -430,9 +453,8 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 		g.Notes = append(g.Notes, fmt.Sprintf("Zoomed in: the axis stops at %s, short of the upper bound %s.",
 			xv(x1), xv(upper)))
 	}
-	if k.clipped != "" {
-		g.Notes = append(g.Notes, fmt.Sprintf("The density rises above the top of the chart (cut at %s) for %s.",
-			formatSig(top, 3), k.clipped))
+	if k.cut != "" {
+		g.Notes = append(g.Notes, k.cut)
 	}
 	y := cumul.bottom() + 64 + extraTitle
 	for _, n := range g.Notes {

@@ -1,0 +1,87 @@
+package chart
+
+import (
+	"strings"
+	"testing"
+)
+
+// The words on and under an expert's picture of their fit are written for
+// an expert in the subject, not a statistician: it led with "Beta(α =
+// 4.2, β = 17.9) fitted to your judgement", gave "fitted percentiles" and
+// "your stated points", titled the upper plot "density" and keyed the
+// curve as "fitted Beta". Now the caption (the SVG's desc alike) says
+// what the curves are, the curve's 5%, middle and 95% points and how
+// close it comes to each answer; the Beta's parameters come last, and in
+// the table's caption, for the facilitator who reads the same picture.
+func TestFitSpeaksToTheExpert(t *testing.T) {
+	d := sbeta(4.2, 17.9, 0, 1)
+	v := fitViewOf(d, Point{0.06, 0.05}, Point{0.18, 0.5}, Point{0.36, 0.95})
+	m := newFitModel(v)
+	// The words the statistician's picture used; the Beta's own sentence
+	// aside.
+	jargon := []string{"fitted", "Fitted", "percentile", "judgement", "stated", "density", "Density", "Beta", "distribution"}
+	plain := func(what, text, params string) {
+		t.Helper()
+		text = strings.TrimSuffix(text, " In statistical terms the curve is "+params+".")
+		for _, w := range jargon {
+			if strings.Contains(text, w) {
+				t.Errorf("%s says %q: %s", what, w, text)
+			}
+		}
+	}
+	for _, layout := range []string{"wide", "compact"} {
+		ns := parse(t, renderLayout(t, Fit(v), layout))
+		title, desc, caption := find(ns, "title", ""), find(ns, "desc", ""), find(ns, "figcaption", "")
+		if len(title) != 1 || len(desc) != 1 || len(caption) != 1 {
+			t.Fatalf("%s: %d titles, %d descs, %d figcaptions", layout, len(title), len(desc), len(caption))
+		}
+		// What a screen reader hears is what a sighted reader reads.
+		if desc[0].Text != caption[0].Text {
+			t.Errorf("%s: the desc %q is not the caption %q", layout, desc[0].Text, caption[0].Text)
+		}
+		plain(layout+": the title", title[0].Text, m.Params)
+		if want := "Your answers on Failure rate (per demand) and the curve that best matches them"; title[0].Text != want {
+			t.Errorf("%s: title %q, want %q", layout, title[0].Text, want)
+		}
+		var axes []string
+		for _, a := range find(ns, "text", "axis-title-y") {
+			axes = append(axes, a.Text)
+		}
+		if strings.Join(axes, "|") != "how likely|chance below" {
+			t.Errorf("%s: the upright titles read %q, want how likely and chance below", layout, axes)
+		}
+		var key []string
+		for _, k := range find(ns, "span", "key-item") {
+			key = append(key, k.Text)
+		}
+		if want := "your answers|the curve's 5%, median and 95% points|the best-matching curve"; strings.Join(key, "|") != want {
+			t.Errorf("%s: the key reads %q, want %q", layout, key, want)
+		}
+		if c := find(ns, "caption", ""); len(c) != 1 || c[0].Text != "Your answers and the curve, "+m.Params {
+			t.Errorf("%s: the table's caption %v does not name the Beta after the answers", layout, c)
+		}
+	}
+	plain("the caption", m.Desc, m.Params)
+	for _, want := range []string{
+		"The picture shows the smooth curve that best matches your answers on Failure rate (per demand), between the bounds 0 and 1.",
+		"The upper curve is higher where you think the value more likely; the lower one gives the chance of a value below each point.",
+		"The curve's 5% point is " + m.Pcts[0] + ", its middle (the median) " + m.Pcts[1] + " and its 95% point " + m.Pcts[2] + ".",
+		"How close the curve comes to your answers (the circles on the lower curve): you gave a chance of 5% below 0.06, the curve " + m.Rows[0].FittedChance +
+			"; 50% below 0.18, the curve " + m.Rows[1].FittedChance + "; 95% below 0.36, the curve " + m.Rows[2].FittedChance + ".",
+	} {
+		if !strings.Contains(m.Desc, want) {
+			t.Errorf("the caption lacks %q:\n%s", want, m.Desc)
+		}
+	}
+	if !strings.HasSuffix(m.Desc, "In statistical terms the curve is Beta(α = 4.2, β = 17.9).") {
+		t.Errorf("the caption does not end with the Beta: %s", m.Desc)
+	}
+
+	// A curve that rises without end at a bound is cut, and the note says
+	// so in the picture's words.
+	j := newFitModel(fitViewOf(sbeta(0.5, 40, 0, 1), Point{0.001, 0.5}))
+	plain("a J-shaped fit's caption", j.Desc, j.Params)
+	if !strings.Contains(j.Desc, "Near a bound the upper curve rises above the top of the chart (cut at ") {
+		t.Errorf("a J-shaped fit's caption does not say the curve is cut: %s", j.Desc)
+	}
+}
