@@ -331,8 +331,8 @@ func TestCountsAgreeWithTheirNumbers(t *testing.T) {
 		}
 	}
 	_, body := h.get(links[3].Path + "q/" + strconv.FormatInt(qs1[0].ID, 10))
-	if strings.Contains(body, "for You") || !strings.Contains(body, "for your curve") {
-		t.Errorf("Ole's page does not name his clipped curve as his: %q", regexp.MustCompile(`rises above the top of the chart[^<]*`).FindString(body))
+	if strings.Contains(body, "of You") || !strings.Contains(body, "below the peak of your curve") {
+		t.Errorf("Ole's page does not name his clipped curve as his: %q", regexp.MustCompile(`The upper plot stops at[^<]*`).FindString(body))
 	}
 }
 

@@ -1212,7 +1212,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
 	}
-	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Percent: percent}
+	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Percent: percent, ForExpert: true}
 }
 
 // panelIntro is the sentence above the overlaid panel. It speaks of the

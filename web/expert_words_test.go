@@ -672,3 +672,35 @@ func TestPossibleValuesInBothUnits(t *testing.T) {
 		}
 	}
 }
+
+// On the expert's page in round 2 their own fit and the other experts'
+// panel under it title their upper plots alike, "how likely": the panel
+// said "density" under the fit's "how likely".
+func TestExpertsPanelTitlesItsPlotsAsTheirFit(t *testing.T) {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
+	for i, a := range [][]string{{"0.03", "0.07", "0.16"}, {"0.02", "0.08", "0.2"}} {
+		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
+			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
+		}
+	}
+	g.secondRound()
+	_, page := g.get(g.qpath(0, g.q))
+	start := strings.Index(page, "What the other experts said")
+	if start < 0 || !strings.Contains(page[:start], `class="chart-with-table chart-fit"`) {
+		t.Fatal("no fit before the other experts' panel")
+	}
+	title := regexp.MustCompile(`class="axis-title axis-title-y"[^>]*>([^<]*)<`)
+	for what, part := range map[string]string{"the fit": page[:start], "the panel": page[start:]} {
+		var titles []string
+		for _, m := range title.FindAllStringSubmatch(part, -1) {
+			titles = append(titles, m[1])
+		}
+		// Both layouts, each an upper and a lower plot.
+		if want := "how likely|chance below|how likely|chance below"; strings.Join(titles, "|") != want {
+			t.Errorf("%s titles its plots %q, want %q", what, titles, want)
+		}
+	}
+	if strings.Contains(page[start:], "Density (upper plot)") || !strings.Contains(page[start:], "How likely each value of") {
+		t.Error("the panel's caption does not name its plots as their titles do")
+	}
+}

@@ -256,7 +256,7 @@ func TestExtremeShapesStayFinite(t *testing.T) {
 			html := render(t, Fit(fitViewOf(d, Point{d.Quantile(0.25), 0.25}, Point{d.Quantile(0.75), 0.75})))
 			checkFinite(t, html)
 			cap := find(parse(t, html), "figcaption", "")[0].Text
-			if got := strings.Contains(cap, "rises above the top"); got != c.cut {
+			if got := strings.Contains(cap, "below the curve's peak"); got != c.cut {
 				t.Errorf("caption says density cut = %v, want %v: %s", got, c.cut, cap)
 			}
 			if c.zoom == "" && strings.Contains(cap, "Zoomed") || c.zoom != "" && !strings.Contains(cap, c.zoom) {

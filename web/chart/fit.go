@@ -77,7 +77,7 @@ func (v FitView) thinks() string {
 // how likely each value is, and a curve rises above its top only at a
 // bound, where the expert's answers put the most likely values.
 var fitWords = twinWords{Upper: "how likely", Lower: "chance below", Cut: func(top, _ string) string {
-	return "Near a bound the upper curve rises above the top of the chart (cut at " + top + ")."
+	return "The upper plot stops at " + top + ", below the curve's peak near a bound."
 }}
 
 // percentileProbs are the probabilities of FitView.Percentiles.

@@ -1,6 +1,7 @@
 package chart
 
 import (
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -81,7 +82,47 @@ func TestFitSpeaksToTheExpert(t *testing.T) {
 	// so in the picture's words.
 	j := newFitModel(fitViewOf(sbeta(0.5, 40, 0, 1), Point{0.001, 0.5}))
 	plain("a J-shaped fit's caption", j.Desc, j.Params)
-	if !strings.Contains(j.Desc, "Near a bound the upper curve rises above the top of the chart (cut at ") {
+	if !regexp.MustCompile(`The upper plot stops at \d+, below the curve's peak near a bound\.`).MatchString(j.Desc) {
 		t.Errorf("a J-shaped fit's caption does not say the curve is cut: %s", j.Desc)
+	}
+}
+
+// The panel an expert sees under their own fit speaks as the fit does
+// ("how likely" over "chance below", in its caption too), where it said
+// "density" beside the fit's "how likely"; the facilitator's panels keep
+// the statistician's "density".
+func TestExpertsPanelSpeaksAsTheirFit(t *testing.T) {
+	curves := []Curve{
+		{Label: "You", Role: RoleExpert, Dist: sbeta(0.6, 8, 0, 1)},
+		{Label: "Expert B", Role: RoleExpert, Dist: sbeta(0.7, 9, 0, 1)},
+	}
+	for _, c := range []struct {
+		forExpert     bool
+		upper, starts string
+		cut           string
+	}{
+		{true, "how likely", "How likely each value of Response rate is (upper plot, higher where more likely) and the chance of a value below each point (lower plot), between the bounds 0 and 1.",
+			"The upper plot stops at 7, below the peak of You and Expert B."},
+		{false, "density", "Density (upper plot) and chance below each value (lower plot) of Response rate, between the bounds 0 and 1.",
+			"The density rises above the top of the chart (cut at 7) for You and Expert B."},
+	} {
+		v := PanelView{ID: "p", Quantity: "Response rate", Lower: 0, Upper: 1, Curves: curves, ForExpert: c.forExpert}
+		for _, layout := range []string{"wide", "compact"} {
+			ns := parse(t, renderLayout(t, Panel(v), layout))
+			var axes []string
+			for _, a := range find(ns, "text", "axis-title-y") {
+				axes = append(axes, a.Text)
+			}
+			if want := c.upper + "|chance below"; strings.Join(axes, "|") != want {
+				t.Errorf("for the expert %v, %s: the upright titles read %q, want %q", c.forExpert, layout, axes, want)
+			}
+		}
+		m := newPanelModel(v)
+		if !strings.HasPrefix(m.Desc, c.starts) || !strings.Contains(m.Desc, c.cut) {
+			t.Errorf("for the expert %v: the caption reads\n%s\nwant it to start %q and say %q", c.forExpert, m.Desc, c.starts, c.cut)
+		}
+		if notes := PanelNotes(v); len(notes) == 0 || !strings.HasPrefix(notes[len(notes)-1], c.cut) {
+			t.Errorf("for the expert %v: the notes %q do not end %q", c.forExpert, notes, c.cut)
+		}
 	}
 }

@@ -27,6 +27,25 @@ type PanelView struct {
 	// before: drawn as a labelled upright line through both plots and
 	// said in the caption.
 	Truth *float64
+	// ForExpert writes the picture in the words of the expert's own fit
+	// (fitWords), "how likely" over "chance below", for the panel an
+	// expert sees on their question's page under their fit; the
+	// facilitator's pages keep the statistician's "density".
+	ForExpert bool
+}
+
+// expertPanelWords are fitWords for a picture of several curves, whose
+// note names the curves cut at the top.
+var expertPanelWords = twinWords{Upper: fitWords.Upper, Lower: fitWords.Lower, Cut: func(top, names string) string {
+	return fmt.Sprintf("The upper plot stops at %s, below the peak of %s.", top, names)
+}}
+
+// words are the view's twinWords.
+func (v PanelView) words() twinWords {
+	if v.ForExpert {
+		return expertPanelWords
+	}
+	return densityWords
 }
 
 // truth is the view's true value to draw, or nil.
@@ -132,7 +151,7 @@ func PanelNotes(v PanelView) []string {
 	if len(curves) == 0 {
 		return nil
 	}
-	return newTwinIn(wideLayout, densityWords, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
+	return newTwinIn(wideLayout, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
 }
 
 func newPanelModel(v PanelView) panelModel {
@@ -151,7 +170,7 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	for i, lay := range layouts {
-		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, densityWords, v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
+		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}
@@ -171,11 +190,15 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
 	var b strings.Builder
-	// The plots' own axis titles, "density" and "chance below", not the
-	// statistician's "cumulative probability", which an expert reads here
-	// on their own page.
-	fmt.Fprintf(&b, "Density (upper plot) and chance below each value (lower plot) of %s, between the bounds %s and %s. ",
-		axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
+	// The plots' own axis titles, "density" (or "how likely") and
+	// "chance below", not the statistician's "cumulative probability".
+	if v.ForExpert {
+		fmt.Fprintf(&b, "How likely each value of %s is (upper plot, higher where more likely) and the chance of a value below each point (lower plot), between the bounds %s and %s. ",
+			axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
+	} else {
+		fmt.Fprintf(&b, "Density (upper plot) and chance below each value (lower plot) of %s, between the bounds %s and %s. ",
+			axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
+	}
 	b.WriteString(strings.Join(words, "; ") + ". ")
 	if t := v.truth(); t != nil {
 		fmt.Fprintf(&b, "The true value, now revealed, is %s: the red dashed upright line. ", v.value(*t))
