@@ -455,6 +455,11 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	carmen.open(qURL(0))
 	carmen.sees("round 2 feedback on a phone", "What the other experts said", "Their reasons", "From the district's own burst log (invented).")
 	shots.take(carmen, "device-expert-round2-Q1-390")
+	// The same page on a laptop: her fit with its words, and the panel
+	// under it in the same words.
+	carmen.viewport(1366, 900, false)
+	carmen.open(qURL(0))
+	shots.take(carmen, "device-expert-round2-Q1-1366")
 	check(fac, "facilitator panel, round 2", facPages["panel Q1"], []int64{390, 1366}, true)
 }
 
