@@ -48,6 +48,17 @@ func TestFarTailChanceReadsAsABound(t *testing.T) {
 			t.Errorf("a fitted chance strictly inside reads %q", c)
 		}
 	}
+	// A chance below of 0% or 100% is reached only at a bound, which the
+	// curve's value names: "the curve says 1" beside "you said 0.2" read
+	// as a wide miss.
+	says := regexp.MustCompile(`data-label="the curve says" role="cell">([^<]*)<`)
+	var values []string
+	for _, m := range says.FindAllStringSubmatch(wideOnly(body), -1) {
+		values = append(values, m[1])
+	}
+	if n := len(values); n < 7 || values[0] != "0, the lower bound" || values[3] != "1, the upper bound" || values[6] != "1, the upper bound" || values[1] == "" || strings.Contains(values[1], "bound") {
+		t.Errorf("the curve's values %q, want the bound named where the chance below is 0%% or 100%%", values)
+	}
 	// The read-back said the curve gives "no chance" above 0.6.
 	if !strings.Contains(body, "The fitted curve gives a chance of less than 0.0001% above it.") || strings.Contains(body, "gives no chance") {
 		t.Error("the read-back of the far-tail edge 0.6 is not a true bound")

@@ -80,6 +80,21 @@ var fitWords = twinWords{Upper: "how likely", Lower: "chance below", Cut: func(t
 	return "The upper plot stops at " + top + ", below the curve's peak near a bound."
 }}
 
+// boundWords names the bound a fitted value is, where a point's chance
+// below is 0 or 1 (a chips board's edges below or above every chip): a
+// Beta reaches 0% and 100% only at the bounds, so the curve "says" the
+// bound itself, and "you said 0.2, the curve says 1" read as a wide miss
+// where the chance below 0.2 was close (98.5%).
+func boundWords(x, p, lower, upper float64) string {
+	switch {
+	case p == 0 && x == lower:
+		return ", the lower bound"
+	case p == 1 && x == upper:
+		return ", the upper bound"
+	}
+	return ""
+}
+
 // percentileProbs are the probabilities of FitView.Percentiles.
 var percentileProbs = [3]float64{0.05, 0.5, 0.95}
 
@@ -171,7 +186,7 @@ func newFitModel(v FitView) fitModel {
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
-	var stated, fitted []float64
+	var stated, fitted, probs []float64
 	for i, p := range v.Points {
 		if !isFinite(p.X) || !isFinite(p.P) || p.X < g.X0 || p.X > g.X1 || p.P < 0 || p.P > 1 {
 			continue
@@ -182,7 +197,7 @@ func newFitModel(v FitView) fitModel {
 		} else {
 			x, chance = v.Dist.Quantile(p.P), v.Dist.CDF(p.X)
 		}
-		stated, fitted = append(stated, p.X), append(fitted, x)
+		stated, fitted, probs = append(stated, p.X), append(fitted, x), append(probs, p.P)
 		m.Rows = append(m.Rows, fitRow{Chance: FormatPercent(p.P), FittedChance: fittedChance(chance, p.X, v)})
 	}
 	// Each column is one range: values typed apart, and the fitted values
@@ -191,7 +206,7 @@ func newFitModel(v FitView) fitModel {
 		m.Rows[i].Stated = text
 	}
 	for i, text := range FormatRangeWithin(fitted, v.Lower, v.Upper, v.Percent) {
-		m.Rows[i].Fitted = text
+		m.Rows[i].Fitted = text + boundWords(fitted[i], probs[i], v.Lower, v.Upper)
 	}
 	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your answers", "you said", "the curve's chance below yours"
 	if v.Whose != "" {
