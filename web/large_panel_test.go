@@ -14,9 +14,16 @@ import (
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-// largePanel seeds a signed-in harness with one quantile question and n
+// seedLargePanel seeds a signed-in harness with one quantile question and n
 // experts who each answered it with a reason (invented judgements).
 func seedLargePanel(t *testing.T, n int) (*harness, workshop.Workshop, workshop.Question, []workshop.Revision) {
+	t.Helper()
+	return seedLargePanelWith(t, n, nil)
+}
+
+// seedLargePanelWith is seedLargePanel with the question changed by set
+// before it is saved (nil: as it is).
+func seedLargePanelWith(t *testing.T, n int, set func(*workshop.Question)) (*harness, workshop.Workshop, workshop.Question, []workshop.Revision) {
 	t.Helper()
 	h := newHarness(t)
 	h.signIn()
@@ -27,6 +34,9 @@ func seedLargePanel(t *testing.T, n int) (*harness, workshop.Workshop, workshop.
 	}
 	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of invented gaskets leak in year one?", Quantity: "Leak share",
 		Units: "proportion", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	if set != nil {
+		set(&q)
+	}
 	if err := h.db.AddQuestion(ctx, &q); err != nil {
 		t.Fatal(err)
 	}

@@ -23,7 +23,7 @@ type picture struct {
 func panelPicture(frame chart.PanelView, names []string, dists []elicit.ScaledBeta, summary []chart.Curve) picture {
 	if len(dists) > overlayLimit {
 		return picture{Spread: &chart.SpreadView{ID: frame.ID, Quantity: frame.Quantity, Units: frame.Units,
-			Lower: frame.Lower, Upper: frame.Upper, Curves: summary, Others: dists, WholePanel: true}}
+			Lower: frame.Lower, Upper: frame.Upper, Curves: summary, Others: dists, WholePanel: true, Truth: frame.Truth}}
 	}
 	v := frame
 	for i, d := range dists {

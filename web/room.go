@@ -193,7 +193,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if fb.poolErr == nil {
 			pc = append(pc, poolCurve(fb.pool))
 		}
-		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth}
 	} else {
 		switch {
 		case fb.poolErr != nil:

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
 
@@ -72,5 +73,53 @@ func TestRoomFingerprintNoteNamesTheRound(t *testing.T) {
 	want := "Note it: a later copy of the record must show this same value for round 1's close."
 	if m == nil || strings.Join(strings.Fields(m[1]), " ") != want {
 		t.Errorf("the room's fingerprint note reads %q, want %q", m, want)
+	}
+}
+
+// A large panel's picture (the curves over the strip of intervals, drawn
+// beyond overlayLimit experts) draws a revealed true value too, in the
+// room and on the question's panel: labelled over the curves, continued
+// through the strip, and said in both captions; before the reveal,
+// nothing of it.
+func TestLargePanelDrawsTheTrueValueOnlyOnceRevealed(t *testing.T) {
+	const truth = 0.37
+	h, ws, q, _ := seedLargePanelWith(t, overlayLimit+3, func(q *workshop.Question) {
+		q.Calibration = true
+		tv := truth
+		q.TrueValue = &tv
+	})
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != 303 {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	value := chart.FormatWithin(truth, q.Lower, q.Upper, false)
+	label := ">true value " + value + "</text>"
+	words := "The true value, now revealed, is " + value + ": the red dashed upright line."
+	spread := regexp.MustCompile(`(?s)<div class="chart-spread".*?</table>\s*</div>\s*</div>`)
+	_, panel := h.get(questionPath(ws.ID, q.ID))
+	if pic := spread.FindString(panel); pic == "" {
+		t.Fatal("the panel draws no picture of a large panel")
+	} else if strings.Contains(pic, "truth-line") || strings.Contains(pic, "true value") {
+		t.Error("the panel's picture draws the true value before the reveal")
+	}
+	if err := h.db.SetTrueValue(context.Background(), q.ID, truth, true, "Revealed after round 1 (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, room := h.get(roomPath(ws.ID, q.ID))
+	_, panel = h.get(questionPath(ws.ID, q.ID))
+	for name, body := range map[string]string{"room": room, "panel": panel} {
+		pic := spread.FindString(body)
+		if pic == "" {
+			t.Fatalf("the %s draws no picture of a large panel after the reveal", name)
+		}
+		// Two pictures (the curves, the strip) in two layouts each.
+		if n := strings.Count(pic, `class="truth-line"`); n != 4 {
+			t.Errorf("the %s's picture draws %d lines of the true value, want 4 (the curves and the strip, in both layouts)", name, n)
+		}
+		if n := strings.Count(pic, label); n != 2 {
+			t.Errorf("the %s's picture labels the true value %d times, want once per layout", name, n)
+		}
+		if n := strings.Count(pic, words); n < 2 {
+			t.Errorf("the %s's captions say %q %d times, want in both pictures' captions", name, words, n)
+		}
 	}
 }

@@ -99,25 +99,44 @@ type panelDrawing struct {
 	Truth  *truthGeom // the revealed true value's line, nil without one
 }
 
-// truthGeom is the true value's upright line through both plots and its
-// label above the density plot.
+// truthGeom is the true value's upright line and, where the picture
+// names it, its label above the line.
 type truthGeom struct {
 	X, Y1, Y2              string
 	LabelX, LabelY, Anchor string
-	Label                  string
+	Label                  string // "" for a line named elsewhere
 }
 
-// panelTruth lays out the line and label of the true value x in g, or nil
-// when x lies outside the window. The label is kept inside the picture
-// as the median strip keeps its own (truthLabelAt).
-func panelTruth(g twinGeom, x float64, label string) *truthGeom {
-	if !(x >= g.X0 && x <= g.X1) {
+// truthMark lays out the line of the true value x on the x axis of f, from
+// row y1 down to row y2 of a picture w units wide, labelled just above y1
+// when label is not empty, or nil when x lies outside f's window. The
+// label is kept inside the picture as the median strip keeps its own
+// (truthLabelAt). Every picture of the curves draws its true value here:
+// the panel's, and the spread's curves and strip.
+func truthMark(f frame, x, y1, y2, w float64, label string) *truthGeom {
+	if !(x >= f.X0 && x <= f.X1) {
 		return nil
 	}
-	tx := g.dens.px(x)
-	lx, anchor := truthLabelAt(tx, label, g.Layout.width())
-	return &truthGeom{X: coord(tx), Y1: coord(g.dens.Top - 4), Y2: coord(g.cumul.bottom()),
-		LabelX: coord(lx), LabelY: coord(g.dens.Top - 10), Anchor: anchor, Label: label}
+	tx := f.px(x)
+	t := &truthGeom{X: coord(tx), Y1: coord(y1), Y2: coord(y2)}
+	if label != "" {
+		lx, anchor := truthLabelAt(tx, label, w)
+		t.LabelX, t.LabelY, t.Anchor, t.Label = coord(lx), coord(y1-6), anchor, label
+	}
+	return t
+}
+
+// panelTruth lays out the line of the true value x through both plots of
+// g, labelled above the density plot, or nil when x lies outside the
+// window.
+func panelTruth(g twinGeom, x float64, label string) *truthGeom {
+	return truthMark(g.dens, x, g.dens.Top-4, g.cumul.bottom(), g.Layout.width(), label)
+}
+
+// truthWords says in a picture's caption where its revealed true value,
+// written value, is drawn.
+func truthWords(value string) string {
+	return "The true value, now revealed, is " + value + ": the red dashed upright line."
 }
 
 type panelModel struct {
@@ -201,7 +220,7 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	b.WriteString(strings.Join(words, "; ") + ". ")
 	if t := v.truth(); t != nil {
-		fmt.Fprintf(&b, "The true value, now revealed, is %s: the red dashed upright line. ", v.value(*t))
+		b.WriteString(truthWords(v.value(*t)) + " ")
 	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")

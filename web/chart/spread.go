@@ -29,6 +29,15 @@ type SpreadView struct {
 	// Percent writes the quantity's values as percentages (PanelView's
 	// Percent).
 	Percent bool
+	// Truth is a calibration question's true value once revealed to the
+	// room, nil before (PanelView's Truth): a labelled upright line through
+	// the curves, continued through the strip, and said in both captions.
+	Truth *float64
+}
+
+// curvesView is the view of the curves drawn above the strip.
+func (v SpreadView) curvesView(id string) PanelView {
+	return PanelView{ID: id, Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent, Truth: v.Truth}
 }
 
 // spreadQuartile is one row of the table of the other experts' medians.
@@ -51,6 +60,7 @@ type spreadStrip struct {
 	Axis      axesGeom
 	XTicks    []tickGeom
 	XLabelY   string
+	Truth     *truthGeom // the revealed true value's line, nil without one
 }
 
 type spreadModel struct {
@@ -68,6 +78,9 @@ type spreadModel struct {
 const (
 	spreadRowH = 1.0
 	spreadPad  = 6.0
+	// stripTruthRoom is the room above the strip for the true value's
+	// label, where no picture of the curves stands above it.
+	stripTruthRoom = 24.0
 )
 
 // Spread draws the panel's pool and own curve, the strip of the other
@@ -82,7 +95,7 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if m.ID == "" {
 		m.ID = "spread"
 	}
-	m.Panel = newPanelModel(PanelView{ID: m.ID + "-curves", Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent})
+	m.Panel = newPanelModel(v.curvesView(m.ID + "-curves"))
 	type interval struct{ p5, p50, p95 float64 }
 	var iv []interval
 	for _, d := range v.Others {
@@ -146,13 +159,18 @@ func newSpreadModel(v SpreadView) spreadModel {
 	m.Desc = fmt.Sprintf("%s, from their 5th to their 95th percentile, with a dot at their median, sorted by median. "+
 		"The %s%d %s medians run from %s to %s; half of them lie between %s and %s.",
 		line, other, len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
+	if t := v.curvesView("").truth(); t != nil {
+		m.Desc += " " + truthWords(v.curvesView("").value(*t))
+	}
 	return m
 }
 
 // newStrip lays out n intervals (the k-th's 5th, 50th and 95th
 // percentiles from at) under the curves' plots in lay, sharing their x
 // axis (same left edge, width and window) so the ticks fall in the same
-// columns.
+// columns. A revealed true value's line runs through the strip too, in
+// the curves' column; it is labelled here only when there is no picture
+// of the curves above to label it.
 func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) (p5, p50, p95 float64)) (spreadStrip, bool) {
 	x0, x1 := v.Lower, v.Upper
 	if curves != nil {
@@ -165,7 +183,12 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		return spreadStrip{}, false
 	}
 	st := spreadStrip{Layout: lay.Name}
-	f := frame{Left: lay.Left, Top: spreadPad, Width: lay.PlotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	truth, label, top := v.curvesView("").truth(), "", spreadPad
+	if truth != nil && curves == nil {
+		label = "true value " + v.curvesView("").value(*truth)
+		top += stripTruthRoom
+	}
+	f := frame{Left: lay.Left, Top: top, Width: lay.PlotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
 	var iv, md strings.Builder
 	for k := 0; k < n; k++ {
@@ -181,6 +204,9 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 	st.Axis.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	if curves != nil {
 		st.XTicks = curves.XTicks
+	}
+	if truth != nil {
+		st.Truth = truthMark(f, *truth, f.Top-4, f.bottom(), lay.width(), label)
 	}
 	st.XLabelY = coord(f.bottom() + 16)
 	st.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(f.bottom()+26)
