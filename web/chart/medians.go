@@ -54,12 +54,24 @@ type medianDrawing struct {
 	LegendX, LegendY           string
 	LegendMarkX                string
 	LegendMarkY1, LegendMarkY2 string
+	// The box is named beside the mark, or on a line of its own where the
+	// strip is too narrow for both: a sample of the box and boxLegend.
+	BoxLegendX, BoxLegendY                         string
+	BoxSampleX, BoxSampleY, BoxSampleW, BoxSampleH string
 }
 
 // midLegend is the legend's words for the upright mark at the middle
 // expert's median (sp.Median, by nearest rank: with an even count the
 // lower of the two middle ones, as the table beside says).
 const midLegend = "middle expert's median"
+
+// boxLegend is the legend's words for the box, from the lower to the
+// upper quartile of the medians: the middle half of them.
+const boxLegend = "middle half of the medians"
+
+// legendPx is the font size the legend is laid out for: the largest a
+// stylesheet gives it (.chart-medians .chart-wide .legend-label).
+const legendPx = 17
 
 type medianStripModel struct {
 	ID, Title, Desc string
@@ -208,8 +220,18 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		rowEnd[r] = x
 		rows[i] = r
 	}
-	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom + stripLegend
-	axisY := h - stripBottom - stripLegend
+	// The box's legend follows the mark's on its line if it fits there,
+	// else it takes a line of its own.
+	noBox := len(v.Medians) < minBoxMedians
+	d.NoBox = noBox
+	boxX := f.Left + 12 + labelEm(midLegend, false)*legendPx + 24
+	ownLine := !noBox && boxX+22+labelEm(boxLegend, false)*legendPx > w-2
+	legendH := stripLegend
+	if ownLine {
+		legendH += stripLegend
+	}
+	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom + legendH
+	axisY := h - stripBottom - legendH
 	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
 	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
 	d.TickY = coord(axisY + 20)
@@ -225,6 +247,14 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	legendY := axisY + stripBottom + stripLegend/2
 	d.LegendMarkX, d.LegendMarkY1, d.LegendMarkY2 = coord(f.Left+2), coord(legendY-13), coord(legendY+3)
 	d.LegendX, d.LegendY = coord(f.Left+12), coord(legendY)
+	if !noBox {
+		boxY := legendY
+		if ownLine {
+			boxX, boxY = f.Left, legendY+stripLegend
+		}
+		d.BoxSampleX, d.BoxSampleY, d.BoxSampleW, d.BoxSampleH = coord(boxX), coord(boxY-13), "16", "16"
+		d.BoxLegendX, d.BoxLegendY = coord(boxX+22), coord(boxY)
+	}
 	for i, med := range v.Medians {
 		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
 		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
