@@ -168,6 +168,9 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	})()`); len(over) > 0 {
 		t.Errorf("the room view on a phone draws parts over one another: %q", over)
 	}
+	if m := measurePicture(t, room); m.UnderTitle > 20 {
+		t.Errorf("on a phone %.0f px stand empty under the room's picture's axis title, before its legend", m.UnderTitle)
+	}
 	shots.take(room, "room-02d-question-1-390")
 	room.viewport(1920, 1080, false)
 	room.open(roomURL(q1))
@@ -334,4 +337,32 @@ func notesReadable(t *testing.T, p *person, screen string, px float64) {
 	if small := eval[int](p, "notes in the picture", `Array.from(document.querySelectorAll(".room-chart svg text.chart-note")).filter(e => e.getClientRects().length > 0 && getComputedStyle(e).display !== "none").length`); small != 0 {
 		t.Errorf("on a %s screen the room's picture still draws %d notes in its small print", screen, small)
 	}
+}
+
+// pictureMeasure is the room's picture as drawn on the screen, in CSS px.
+type pictureMeasure struct {
+	TickPx     float64 `json:"tickPx"`     // an x tick label's font
+	UnderTitle float64 `json:"underTitle"` // empty height under the x axis's title before what the picture draws below it
+	ToNotes    float64 `json:"toNotes"`    // empty height between the picture's lowest text and the notes under it
+	Spare      float64 `json:"spare"`      // the column's height left under the picture and its notes
+}
+
+func measurePicture(t *testing.T, p *person) pictureMeasure {
+	t.Helper()
+	return eval[pictureMeasure](p, "the room's picture on screen", `(() => {
+		const svg = Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).find(e => e.getClientRects().length);
+		const shown = e => e.getClientRects().length && getComputedStyle(e).display !== "none";
+		const texts = Array.from(svg.querySelectorAll("text")).filter(shown).map(e => e.getBoundingClientRect());
+		const title = Math.max(...Array.from(svg.querySelectorAll("text.axis-title:not(.axis-title-y)")).filter(shown).map(e => e.getBoundingClientRect().bottom));
+		const below = texts.filter(r => r.top >= title - 1);
+		const lowest = Math.max(...texts.map(r => r.bottom));
+		const notes = document.querySelector(".room-chart-notes");
+		const end = notes ? notes.getBoundingClientRect().bottom : lowest;
+		return {
+			tickPx: parseFloat(getComputedStyle(svg.querySelector(".tick-label")).fontSize) * svg.getScreenCTM().a,
+			underTitle: below.length ? Math.min(...below.map(r => r.top)) - title : 0,
+			toNotes: notes ? notes.getBoundingClientRect().top - lowest : 0,
+			spare: document.querySelector(".room-chart").getBoundingClientRect().bottom - end,
+		};
+	})()`)
 }

@@ -193,7 +193,8 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if fb.poolErr == nil {
 			pc = append(pc, poolCurve(fb.pool))
 		}
-		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth, Room: true}
+		v.ChartNotes = chart.SpreadNotes(*v.Spread)
 	} else {
 		switch {
 		case fb.poolErr != nil:
@@ -205,7 +206,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		default:
 			curves = append(curves, poolCurve(fb.pool))
 		}
-		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth}
+		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth, Room: true}
 		v.ChartNotes = chart.PanelNotes(*v.Panel)
 	}
 	v.Reasons = fb.reasons(0)

@@ -32,6 +32,11 @@ type PanelView struct {
 	// expert sees on their question's page under their fit; the
 	// facilitator's pages keep the statistician's "density".
 	ForExpert bool
+	// Room lays the picture out for the room view, whose page writes the
+	// notes under it in its own type (PanelNotes): the picture leaves them
+	// out, with the room they took between the axis's title and the
+	// legend.
+	Room bool
 }
 
 // expertPanelWords are fitWords for a picture of several curves, whose
@@ -196,6 +201,9 @@ func newPanelModel(v PanelView) panelModel {
 		if t := v.truth(); t != nil {
 			d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
 		}
+		if v.Room {
+			d.Twin.withoutNotes()
+		}
 		d.Legend = panelLegend(&d.Twin, curves, v.values)
 		m.Drawings = append(m.Drawings, d)
 	}
@@ -240,25 +248,31 @@ func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []strin
 	colW := lay.width() / float64(cols)
 	var out []legendGeom
 	for i, c := range curves {
-		l := g.Lines[i]
 		x := lay.Left/2 + float64(i%cols)*colW
 		y := top + float64(i/cols)*24
-		lg := legendGeom{
-			Y: coord(y), TextY: coord(y + 5), X1: coord(x), X2: coord(x + 38),
-			TextX: coord(x + 46), Label: c.Label, Role: l.Role,
-			Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
-		}
-		p := g.percentiles[i]
-		ps := values(p[0], p[1], p[2])
-		lg.P5, lg.P50, lg.P95 = ps[0], ps[1], ps[2]
-		if b, ok := c.beta(); ok {
-			lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatShape(b.Alpha), FormatShape(b.Beta.Beta))
-		}
-		out = append(out, lg)
+		out = append(out, legendEntry(g, i, c, x, y, 38, values))
 	}
 	g.Height = top + float64((len(curves)+cols-1)/cols)*24 + 8
 	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
 	return out
+}
+
+// legendEntry is the i-th curve's legend entry: a sample sample units
+// long from x on row y, and the curve's label after it.
+func legendEntry(g *twinGeom, i int, c Curve, x, y, sample float64, values func(xs ...float64) []string) legendGeom {
+	l := g.Lines[i]
+	lg := legendGeom{
+		Y: coord(y), TextY: coord(y + 5), X1: coord(x), X2: coord(x + sample),
+		TextX: coord(x + sample + 8), Label: c.Label, Role: l.Role,
+		Stroke: l.Stroke, Width: l.Width, Dash: l.Dash, DashName: l.DashName,
+	}
+	p := g.percentiles[i]
+	ps := values(p[0], p[1], p[2])
+	lg.P5, lg.P50, lg.P95 = ps[0], ps[1], ps[2]
+	if b, ok := c.beta(); ok {
+		lg.Params = fmt.Sprintf("Beta(%s, %s)", FormatShape(b.Alpha), FormatShape(b.Beta.Beta))
+	}
+	return lg
 }
 
 // truthLabelAt places a true value's bold label for its line at column tx

@@ -33,12 +33,19 @@ type SpreadView struct {
 	// room, nil before (PanelView's Truth): a labelled upright line through
 	// the curves, continued through the strip, and said in both captions.
 	Truth *float64
+	// Room lays the curves out for the room view (PanelView's Room); the
+	// page writes their notes (SpreadNotes).
+	Room bool
 }
 
 // curvesView is the view of the curves drawn above the strip.
 func (v SpreadView) curvesView(id string) PanelView {
-	return PanelView{ID: id, Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent, Truth: v.Truth}
+	return PanelView{ID: id, Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent, Truth: v.Truth, Room: v.Room}
 }
+
+// SpreadNotes are the notes Spread writes under its wide picture of the
+// curves (PanelNotes), for the room view, which writes them itself.
+func SpreadNotes(v SpreadView) []string { return PanelNotes(v.curvesView("")) }
 
 // spreadQuartile is one row of the table of the other experts' medians.
 type spreadQuartile struct {
@@ -172,7 +179,7 @@ func newSpreadModel(v SpreadView) spreadModel {
 // the curves' column; it is labelled here only when there is no picture
 // of the curves above to label it.
 func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) (p5, p50, p95 float64)) (spreadStrip, bool) {
-	x0, x1 := v.Lower, v.Upper
+	x0, x1, w := v.Lower, v.Upper, lay.width()
 	if curves != nil {
 		x0, x1 = curves.X0, curves.X1
 	}
@@ -206,9 +213,9 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		st.XTicks = curves.XTicks
 	}
 	if truth != nil {
-		st.Truth = truthMark(f, *truth, f.Top-4, f.bottom(), lay.width(), label)
+		st.Truth = truthMark(f, *truth, f.Top-4, f.bottom(), w, label)
 	}
 	st.XLabelY = coord(f.bottom() + 16)
-	st.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(f.bottom()+26)
+	st.ViewBox = "0 0 " + coord(w) + " " + coord(f.bottom()+26)
 	return st, true
 }

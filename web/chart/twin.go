@@ -469,6 +469,16 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	return g
 }
 
+// withoutNotes leaves the notes out of g, and the room they took under
+// the x axis's title, for a page that writes them itself (PanelNotes).
+// The remembered frame is shared, so g's copy of it is changed, not the
+// frame.
+func (g *twinGeom) withoutNotes() {
+	g.Height -= g.Layout.NoteLine * float64(len(g.NoteLines))
+	g.NoteLines, g.NotesSVG = nil, ""
+	g.ViewBox = "0 0 " + coord(g.Layout.width()) + " " + coord(g.Height)
+}
+
 // renderString renders a component to a string, or "" if it fails.
 func renderString(c templ.Component) string {
 	var b strings.Builder

@@ -1,0 +1,79 @@
+package chart
+
+import (
+	"regexp"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// roomCurves is a zoomed-in panel with a spike cut at the top, so that its
+// picture has notes to write: four invented experts and their pool.
+func roomCurves() []Curve {
+	return []Curve{
+		{Label: "Expert A", Role: RoleExpert, Dist: sbeta(3, 60, 0, 1)},
+		{Label: "Expert B", Role: RoleExpert, Dist: sbeta(4, 70, 0, 1)},
+		{Label: "Expert C", Role: RoleExpert, Dist: sbeta(400, 13000, 0, 1)},
+		{Label: "Expert D", Role: RoleExpert, Dist: sbeta(5, 90, 0, 1)},
+		{Label: "Equal-weight pool", Role: RolePool, Dist: sbeta(4, 70, 0, 1)},
+	}
+}
+
+// drawing is the picture of c in one layout, parsed, with its viewBox's
+// width and height.
+func drawing(t *testing.T, html, lay string) ([]node, float64, float64) {
+	t.Helper()
+	pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
+	ns := parse(t, pic)
+	vb := strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])
+	w, _ := strconv.ParseFloat(vb[2], 64)
+	h, _ := strconv.ParseFloat(vb[3], 64)
+	return ns, w, h
+}
+
+// lowestTitle is the baseline of the x axis title's last line.
+func lowestTitle(t *testing.T, ns []node) float64 {
+	t.Helper()
+	y := 0.0
+	for _, n := range find(ns, "text", "axis-title") {
+		if !n.hasClass("axis-title-y") {
+			y = max(y, n.num(t, "y"))
+		}
+	}
+	return y
+}
+
+// The room writes the picture's notes under it in its own type
+// (PanelNotes), so its picture leaves them out, and the room they took:
+// on a phone that room stood empty between the axis's title and the
+// legend. Other pages keep their notes in the picture.
+func TestRoomPictureLeavesItsNotesToThePage(t *testing.T) {
+	v := PanelView{ID: "p", Quantity: "first-year failure share", Units: "proportion of units", Lower: 0, Upper: 1, Curves: roomCurves()}
+	if len(PanelNotes(v)) == 0 {
+		t.Fatal("the test's panel has no notes to leave out")
+	}
+	plain := render(t, Panel(v))
+	if !strings.Contains(plain, `class="chart-note"`) {
+		t.Fatal("a picture outside the room does not write its notes")
+	}
+	v.Room = true
+	for _, lay := range []string{"wide", "compact"} {
+		html := renderLayout(t, Panel(v), lay)
+		ns, _, h := drawing(t, html, lay)
+		if notes := find(ns, "text", "chart-note"); len(notes) > 0 {
+			t.Errorf("%s: the room's picture writes %d lines of notes the page writes itself", lay, len(notes))
+		}
+		title := lowestTitle(t, ns)
+		// Under the title, the legend's first row or the picture's end
+		// follows within a line of text: no room kept for notes.
+		next := h
+		for _, n := range find(ns, "text", "legend-label") {
+			if y := n.num(t, "y"); y > title {
+				next = min(next, y-0.76*17)
+			}
+		}
+		if gap := next - (title + 0.24*15); gap > 20 {
+			t.Errorf("%s: %.0f units stand empty under the axis's title (baseline %.0f) before the legend or the picture's end", lay, gap, title)
+		}
+	}
+}
