@@ -132,6 +132,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	}
 	fitsScreen(t, room, 1920, 1080)
 	notesReadable(t, room, "1920×1080", 17)
+	pictureFills(t, room, "1920×1080", 14)
 	shots.take(room, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
 	// An older projector: 1366×768. The picture's notes (the axis zoomed
@@ -141,6 +142,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	room.open(roomURL(q1))
 	fitsScreen(t, room, 1366, 768)
 	notesReadable(t, room, "1366×768", 16)
+	pictureFills(t, room, "1366×768", 14)
 	shots.take(room, "room-02b-question-1-1366x768")
 	// A 1280×720 projector, the smallest in common use: the wording takes
 	// three lines and the notes wrap, and the view still fits.
@@ -148,6 +150,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	room.open(roomURL(q1))
 	fitsScreen(t, room, 1280, 720)
 	notesReadable(t, room, "1280×720", 16)
+	pictureFills(t, room, "1280×720", 13.5)
 	shots.take(room, "room-02c-question-1-1280x720")
 	// The facilitator looking at the room view on a phone: the page flows
 	// in one column and scrolls, and no part is drawn over another (held
@@ -365,4 +368,28 @@ func measurePicture(t *testing.T, p *person) pictureMeasure {
 			spare: document.querySelector(".room-chart").getBoundingClientRect().bottom - end,
 		};
 	})()`)
+}
+
+// pictureFills fails unless the room's picture uses the projector's
+// height: no empty band under its axis's title (the notes' room, where
+// the page writes them itself) or between it and its notes (a picture
+// held to 66vh), little of the column left under them, and tick labels of
+// at least px on the screen. The picture is as large as the column's
+// width or what the header and notes leave of the height allows.
+func pictureFills(t *testing.T, p *person, screen string, px float64) {
+	t.Helper()
+	m := measurePicture(t, p)
+	t.Logf("on a %s screen the room's tick labels are %.1f px", screen, m.TickPx)
+	if m.TickPx < px {
+		t.Errorf("on a %s screen the room's picture writes its tick labels at %.1f px, want at least %.1f", screen, m.TickPx, px)
+	}
+	if m.UnderTitle > 20 {
+		t.Errorf("on a %s screen %.0f px stand empty under the picture's axis title", screen, m.UnderTitle)
+	}
+	if m.ToNotes > 24 {
+		t.Errorf("on a %s screen %.0f px stand empty between the picture and its notes", screen, m.ToNotes)
+	}
+	if h := eval[float64](p, "the screen's height", `window.innerHeight`); m.Spare > 0.1*h {
+		t.Errorf("on a %s screen the picture and its notes leave %.0f px of their column empty", screen, m.Spare)
+	}
 }

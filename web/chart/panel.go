@@ -2,6 +2,7 @@ package chart
 
 import (
 	"fmt"
+	"math"
 	"strings"
 
 	"github.com/a-h/templ"
@@ -35,7 +36,8 @@ type PanelView struct {
 	// Room lays the picture out for the room view, whose page writes the
 	// notes under it in its own type (PanelNotes): the picture leaves them
 	// out, with the room they took between the axis's title and the
-	// legend.
+	// legend, and its wide drawing stands the legend beside the plots,
+	// where a projector's wide screen has room, rather than under them.
 	Room bool
 }
 
@@ -201,10 +203,16 @@ func newPanelModel(v PanelView) panelModel {
 		if t := v.truth(); t != nil {
 			d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
 		}
-		if v.Room {
+		switch {
+		case v.Room && lay.Name == wideLayout.Name:
 			d.Twin.withoutNotes()
+			d.Legend = sideLegend(&d.Twin, curves, v.values)
+		case v.Room:
+			d.Twin.withoutNotes()
+			d.Legend = panelLegend(&d.Twin, curves, v.values)
+		default:
+			d.Legend = panelLegend(&d.Twin, curves, v.values)
 		}
-		d.Legend = panelLegend(&d.Twin, curves, v.values)
 		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
@@ -254,6 +262,42 @@ func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []strin
 	}
 	g.Height = top + float64((len(curves)+cols-1)/cols)*24 + 8
 	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
+	return out
+}
+
+// sideLegendPx is the font size a legend beside the plots is laid out
+// for: a unit above the room's 16px (.room-chart .chart-svg
+// .legend-label).
+const sideLegendPx = 17
+
+// sideLegend lays the legend out in one column beside g's plots, from the
+// density plot's top, and widens the picture for it: on a projector's
+// wide screen the picture then grows with the screen's height instead of
+// stopping at a legend under it. The column starts past the x axis's
+// last tick label where it would reach down to the labels. Its samples
+// are shorter than under the plots, and the picture ends just under the
+// x axis's title: on a 1280×720 projector the picture's width is what
+// sets the size of its text.
+func sideLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []string) []legendGeom {
+	const sample = 30
+	lay := g.Layout
+	top := g.dens.Top + 8
+	x := lay.Left + lay.PlotW + 12
+	if top+float64(len(curves))*24 > g.cumul.bottom() {
+		x = lay.width()
+	}
+	widest := 0.0
+	var out []legendGeom
+	for i, c := range curves {
+		out = append(out, legendEntry(g, i, c, x, top+float64(i)*24, sample, values))
+		widest = math.Max(widest, labelEm(c.Label, false)*sideLegendPx)
+	}
+	// The layout's right margin takes the column, so a picture drawn to
+	// share this one's x axis (the spread's strip) is as wide.
+	g.Layout.Right = math.Max(lay.Right, x+sample+8+widest+4-lay.Left-lay.PlotW)
+	title := g.cumul.bottom() + 42 + 17*float64(max(0, len(g.XTitleLines)-1))
+	g.Height = math.Max(title+8, top+float64(len(curves))*24)
+	g.ViewBox = "0 0 " + coord(g.Layout.width()) + " " + coord(g.Height)
 	return out
 }
 

@@ -77,3 +77,48 @@ func TestRoomPictureLeavesItsNotesToThePage(t *testing.T) {
 		}
 	}
 }
+
+// On the projector the room's picture stands its legend beside the plots
+// rather than under them, in one column inside the picture, and ends just
+// under the axis's title, so that a wide screen draws it larger; the
+// phone's drawing keeps the legend under the plots.
+func TestRoomPictureStandsItsLegendBesideThePlots(t *testing.T) {
+	v := PanelView{ID: "p", Quantity: "first-year failure share", Units: "proportion of units", Lower: 0, Upper: 1, Curves: roomCurves(), Room: true}
+	ns, w, h := drawing(t, renderLayout(t, Panel(v), "wide"), "wide")
+	var right, top, bottom float64
+	for _, r := range find(ns, "rect", "plot-area") {
+		right = max(right, r.num(t, "x")+r.num(t, "width"))
+		if top == 0 || r.num(t, "y") < top {
+			top = r.num(t, "y")
+		}
+		bottom = max(bottom, r.num(t, "y")+r.num(t, "height"))
+	}
+	labels := find(ns, "text", "legend-label")
+	if len(labels) != len(v.Curves) {
+		t.Fatalf("%d legend labels, want %d", len(labels), len(v.Curves))
+	}
+	for _, s := range find(ns, "line", "legend-sample") {
+		if x := s.num(t, "x1"); x <= right {
+			t.Errorf("a legend sample starts at x %.0f, inside the plots (to %.0f)", x, right)
+		}
+	}
+	for _, l := range labels {
+		x, y := l.num(t, "x"), l.num(t, "y")
+		if end := x + labelEm(l.Text, false)*17; end > w {
+			t.Errorf("legend %q ends at %.0f in a picture %.0f wide", l.Text, end, w)
+		}
+		if y-0.76*17 < top || y > bottom {
+			t.Errorf("legend %q at baseline %.0f, beside plots from %.0f to %.0f", l.Text, y, top, bottom)
+		}
+	}
+	if title := lowestTitle(t, ns); h > title+12 {
+		t.Errorf("the picture runs %.0f units below the axis's title", h-title)
+	}
+	cns, _, _ := drawing(t, renderLayout(t, Panel(v), "compact"), "compact")
+	title := lowestTitle(t, cns)
+	for _, l := range find(cns, "text", "legend-label") {
+		if l.num(t, "y") < title {
+			t.Errorf("on a phone the legend %q stands above the axis's title", l.Text)
+		}
+	}
+}

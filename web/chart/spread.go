@@ -181,7 +181,9 @@ func newSpreadModel(v SpreadView) spreadModel {
 func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) (p5, p50, p95 float64)) (spreadStrip, bool) {
 	x0, x1, w := v.Lower, v.Upper, lay.width()
 	if curves != nil {
-		x0, x1 = curves.X0, curves.X1
+		// As wide as the curves' picture, which a legend beside its plots
+		// widens (sideLegend), so that both draw the axis at one scale.
+		x0, x1, w = curves.X0, curves.X1, curves.Layout.width()
 	}
 	if !(x1 > x0) {
 		x0, x1 = v.Lower, v.Upper
