@@ -123,6 +123,13 @@ func TestLargePanelPages(t *testing.T) {
 // experts, each with a reason.
 func largePanel(t *testing.T, s *site, n int) (workshop.Workshop, workshop.Question) {
 	t.Helper()
+	return largePanelWith(t, s, n, nil)
+}
+
+// largePanelWith is largePanel with the question changed by set before it
+// is saved (nil: as it is).
+func largePanelWith(t *testing.T, s *site, n int, set func(*workshop.Question)) (workshop.Workshop, workshop.Question) {
+	t.Helper()
 	ctx := context.Background()
 	ws := workshop.Workshop{Title: "Invented: a large reliability panel", Invented: true,
 		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
@@ -132,6 +139,9 @@ func largePanel(t *testing.T, s *site, n int) (workshop.Workshop, workshop.Quest
 	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
 		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
 		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	if set != nil {
+		set(&q)
+	}
 	if err := s.DB.AddQuestion(ctx, &q); err != nil {
 		t.Fatal(err)
 	}

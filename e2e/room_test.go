@@ -159,16 +159,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	room.viewport(390, 844, true)
 	room.open(roomURL(q1))
 	fits(t, room, "the room view on a phone", 390)
-	if over := eval[[]string](room, "parts drawn over one another", `(() => {
-		const parts = [".room-head", ".room-chart svg.chart-svg", ".room-chart-notes", ".room-side", ".room-nav"].
-			map(sel => [sel, document.querySelector(sel)]).filter(([, e]) => e && e.getClientRects().length);
-		const out = [];
-		for (let i = 0; i < parts.length; i++) for (let j = i + 1; j < parts.length; j++) {
-			const a = parts[i][1].getBoundingClientRect(), b = parts[j][1].getBoundingClientRect();
-			if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(parts[i][0] + " over " + parts[j][0]);
-		}
-		return out;
-	})()`); len(over) > 0 {
+	if over := overlappingParts(room); len(over) > 0 {
 		t.Errorf("the room view on a phone draws parts over one another: %q", over)
 	}
 	if m := measurePicture(t, room); m.UnderTitle > 20 {
@@ -392,4 +383,21 @@ func pictureFills(t *testing.T, p *person, screen string, px float64) {
 	if h := eval[float64](p, "the screen's height", `window.innerHeight`); m.Spare > 0.1*h {
 		t.Errorf("on a %s screen the picture and its notes leave %.0f px of their column empty", screen, m.Spare)
 	}
+}
+
+// overlappingParts names the room view's parts drawn over one another:
+// its header, each shown picture, the notes, the side and the keys.
+func overlappingParts(p *person) []string {
+	return eval[[]string](p, "parts drawn over one another", `(() => {
+		const parts = [[".room-head", document.querySelector(".room-head")]].
+			concat(Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).map((e, i) => ["picture " + i, e])).
+			concat([".room-chart-notes", ".room-side", ".room-nav"].map(sel => [sel, document.querySelector(sel)])).
+			filter(([, e]) => e && e.getClientRects().length);
+		const out = [];
+		for (let i = 0; i < parts.length; i++) for (let j = i + 1; j < parts.length; j++) {
+			const a = parts[i][1].getBoundingClientRect(), b = parts[j][1].getBoundingClientRect();
+			if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(parts[i][0] + " over " + parts[j][0]);
+		}
+		return out;
+	})()`)
 }

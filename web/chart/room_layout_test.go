@@ -81,7 +81,9 @@ func TestRoomPictureLeavesItsNotesToThePage(t *testing.T) {
 // On the projector the room's picture stands its legend beside the plots
 // rather than under them, in one column inside the picture, and ends just
 // under the axis's title, so that a wide screen draws it larger; the
-// phone's drawing keeps the legend under the plots.
+// phone's drawing keeps the legend under the plots. The strip of a large
+// panel is drawn in one picture with the curves above it, each tick in
+// the same column.
 func TestRoomPictureStandsItsLegendBesideThePlots(t *testing.T) {
 	v := PanelView{ID: "p", Quantity: "first-year failure share", Units: "proportion of units", Lower: 0, Upper: 1, Curves: roomCurves(), Room: true}
 	ns, w, h := drawing(t, renderLayout(t, Panel(v), "wide"), "wide")
@@ -119,6 +121,38 @@ func TestRoomPictureStandsItsLegendBesideThePlots(t *testing.T) {
 	for _, l := range find(cns, "text", "legend-label") {
 		if l.num(t, "y") < title {
 			t.Errorf("on a phone the legend %q stands above the axis's title", l.Text)
+		}
+	}
+
+	// A large panel's strip under the room's curves: one picture with
+	// them, so that the screen scales both alike, its ticks in the same
+	// columns as theirs.
+	sv, _ := spreadInputs(30)
+	sv.Room = true
+	sv.Truth = ptr(0.4321)
+	for _, lay := range []string{"wide", "compact"} {
+		pics := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*".*?</svg>`).FindAllString(renderLayout(t, Spread(sv), lay), -1)
+		if len(pics) != 1 {
+			t.Fatalf("%s: %d pictures of a large panel in the room, want the curves and the strip in one", lay, len(pics))
+		}
+		at := strings.Index(pics[0], `<g class="chart-strip-part"`)
+		if at < 0 {
+			t.Fatalf("%s: the room's picture of a large panel has no strip", lay)
+		}
+		grid := regexp.MustCompile(`class="grid grid-x" x1="([^"]+)"`)
+		var curves, strip []string
+		for _, m := range grid.FindAllStringSubmatch(pics[0][:at], -1) {
+			curves = append(curves, m[1])
+		}
+		for _, m := range grid.FindAllStringSubmatch(pics[0][at:], -1) {
+			strip = append(strip, m[1])
+		}
+		if len(strip) == 0 || len(curves) < len(strip) || strings.Join(curves[:len(strip)], " ") != strings.Join(strip, " ") {
+			t.Errorf("%s: ticks at %v over the curves, at %v in the strip", lay, curves, strip)
+		}
+		lines := regexp.MustCompile(`class="truth-line" x1="([^"]+)"`).FindAllStringSubmatch(pics[0], -1)
+		if len(lines) != 2 || lines[0][1] != lines[1][1] {
+			t.Errorf("%s: the true value's lines %q, want one over the curves and one in the strip, in one column", lay, lines)
 		}
 	}
 }

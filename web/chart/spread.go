@@ -68,6 +68,17 @@ type spreadStrip struct {
 	XTicks    []tickGeom
 	XLabelY   string
 	Truth     *truthGeom // the revealed true value's line, nil without one
+	Height    float64    // of the viewBox
+}
+
+// spreadJoin is the room's one picture of the curves over the strip, in
+// one layout: the curves' drawing, its frame made as tall as both, and
+// the strip shifted under it.
+type spreadJoin struct {
+	Curves panelDrawing
+	Twin   twinGeom
+	Strip  spreadStrip
+	Shift  string
 }
 
 type spreadModel struct {
@@ -78,6 +89,7 @@ type spreadModel struct {
 	Desc      string
 	Caption   string // of the medians' table
 	Quartiles []spreadQuartile
+	Joined    []spreadJoin // the room's pictures (SpreadView.Room), wide then compact
 }
 
 // Strip layout: each row is spreadRowH units high, so 200 experts make a
@@ -169,6 +181,14 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if t := v.curvesView("").truth(); t != nil {
 		m.Desc += " " + truthWords(v.curvesView("").value(*t))
 	}
+	if v.Room && m.Panel.Invalid == "" {
+		for i, d := range m.Panel.Drawings {
+			j := spreadJoin{Curves: d, Twin: d.Twin, Strip: m.Strips[i], Shift: coord(d.Twin.Height)}
+			j.Twin.Height += j.Strip.Height
+			j.Twin.ViewBox = "0 0 " + coord(j.Twin.Layout.width()) + " " + coord(j.Twin.Height)
+			m.Joined = append(m.Joined, j)
+		}
+	}
 	return m
 }
 
@@ -218,6 +238,7 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		st.Truth = truthMark(f, *truth, f.Top-4, f.bottom(), w, label)
 	}
 	st.XLabelY = coord(f.bottom() + 16)
-	st.ViewBox = "0 0 " + coord(w) + " " + coord(f.bottom()+26)
+	st.Height = f.bottom() + 26
+	st.ViewBox = "0 0 " + coord(w) + " " + coord(st.Height)
 	return st, true
 }
