@@ -76,6 +76,11 @@ func TestLargePanelRoomInBrowser(t *testing.T) {
 		if !strings.Contains(strings.Join(got.Legend, "|"), "middle half of the medians") {
 			t.Errorf("%s: the median strip's legend reads %q, without its box", screen, got.Legend)
 		}
+		// The axis stops at 0.6: the notes say so under the picture,
+		// which the room kept hidden inside it for a large panel.
+		if notes := eval[string](fac, "the notes under the picture", `(document.querySelector(".room-chart-notes") || {innerText: ""}).innerText`); !strings.Contains(notes, "Zoomed in: the axis stops at") {
+			t.Errorf("%s: the notes under the large panel's picture read %q", screen, notes)
+		}
 		shots.take(fac, "large-room-"+strconv.FormatInt(w, 10))
 	}
 }
