@@ -217,7 +217,13 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		label = "true value " + v.curvesView("").value(*truth)
 		top += stripTruthRoom
 	}
-	f := frame{Left: lay.Left, Top: top, Width: lay.PlotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	left, plotW := lay.Left, lay.PlotW
+	if curves != nil {
+		// The curves' plots, which wide labels beside them may have
+		// narrowed (newTwinIn), set the strip's left edge and width too.
+		left, plotW = curves.Layout.Left, curves.Layout.PlotW
+	}
+	f := frame{Left: left, Top: top, Width: plotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
 	var iv, md strings.Builder
 	for k := 0; k < n; k++ {
