@@ -330,6 +330,8 @@ func TestStudySampleSizeIsRemembered(t *testing.T) {
 		form := newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "length": {length}, "level": {"0.9"}, "criterion": {"alc"}, "interval": {"equal"}})
 		return planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
 	}
+	// A run before this one (go test -count=2) remembered these goals.
+	sampleSizes.Reset()
 	before := sampleSizes.Len()
 	first := plan("0.07")
 	if first.SizeRes == nil {
