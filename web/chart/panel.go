@@ -196,6 +196,9 @@ func newPanelModel(v PanelView) panelModel {
 		return m
 	}
 	for i, lay := range layouts {
+		if v.Room {
+			lay.TickPx = roomTickPx
+		}
 		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name

@@ -154,8 +154,15 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 	for _, w := range windows {
 		lower, upper, x0, x1, percent := w.lower, w.upper, w.x0, w.x1, w.percent
 		over := " over [" + strconv.FormatFloat(x0, 'g', -1, 64) + ", " + strconv.FormatFloat(x1, 'g', -1, 64) + "]"
+		// The room view draws both layouts' tick labels at 15px.
+		room := make([]layout, 0, 2*len(layouts))
 		for _, lay := range layouts {
-			k := frameKey{layout: lay.Name, quantity: "q", lower: lower, upper: upper, x0: x0, x1: x1, top: 1, percent: percent}
+			room = append(room, lay)
+			lay.TickPx = roomTickPx
+			room = append(room, lay)
+		}
+		for _, lay := range room {
+			k := frameKey{layout: lay.Name, tickPx: lay.tickPx(), quantity: "q", lower: lower, upper: upper, x0: x0, x1: x1, top: 1, percent: percent}
 			dens := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.DensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 			cumul := frame{Left: lay.Left, Top: lay.Top + lay.DensityH + lay.Gap, Width: lay.PlotW, Height: lay.CDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 			g := newTwinFrame(lay, k, dens, cumul)
@@ -164,10 +171,13 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 				t.Fatal(err)
 			}
 			where := lay.Name + " twin" + over
+			if lay.TickPx > 0 {
+				where = lay.Name + " twin in the room" + over
+			}
 			if percent {
 				where += " in percent"
 			}
-			checkTickLabels(t, where, "<g>"+b.String()+"</g>", tickLabelPx(lay.Name), lay.width())
+			checkTickLabels(t, where, "<g>"+b.String()+"</g>", lay.tickPx(), lay.width())
 			checkTicksInWindow(t, where, g.XTicks, x0, x1, dens)
 		}
 		for _, lay := range plotLayouts {

@@ -34,7 +34,24 @@ type layout struct {
 	// YTitleX is where the plots' upright titles stand, both at one x,
 	// unless labels level with either push them left (yTitleX).
 	YTitleX float64
+	// TickPx is the x tick labels' font size where a page's stylesheet
+	// draws them larger than the layout's own (tickLabelPx): the room
+	// view's 15px (roomTickPx). 0 is the layout's own.
+	TickPx float64
 }
+
+// tickPx is the x tick labels' font size the ticks are spaced for.
+func (l layout) tickPx() float64 {
+	if l.TickPx > 0 {
+		return l.TickPx
+	}
+	return tickLabelPx(l.Name)
+}
+
+// roomTickPx is the x tick labels' font size in the room view
+// (style.css, .room-chart .chart-svg .tick-label): ticks spaced for 13px
+// labels could run into one another at 15px on the projector.
+const roomTickPx = 15
 
 // width is the layout's viewBox width.
 func (l layout) width() float64 { return l.Left + l.PlotW + l.Right }
@@ -139,6 +156,7 @@ type twinFrame struct {
 // frameKey is everything a twinFrame depends on.
 type frameKey struct {
 	layout          string
+	tickPx          float64 // the x tick labels' font size (layout.tickPx)
 	quantity, units string
 	lower, upper    float64
 	x0, x1, top     float64
@@ -334,7 +352,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 		}
 	}
 
-	key := frameKey{layout: lay.Name, quantity: quantity, units: units, lower: lower, upper: upper,
+	key := frameKey{layout: lay.Name, tickPx: lay.tickPx(), quantity: quantity, units: units, lower: lower, upper: upper,
 		x0: x0, x1: x1, top: top, upperTitle: w.Upper, lowerTitle: w.Lower, percent: percent}
 	if len(g.ClippedBy) > 0 {
 		key.cut = w.Cut(formatSig(top, 3), proseList(g.ClippedBy))
@@ -413,7 +431,7 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	if k.percent {
 		percent = func(t tick) string { return FormatPercent(t.Value) }
 	}
-	g.XTicks = xTicks(x0, x1, lay.XTicks, dens.px, percent, tickLabelPx(lay.Name), lay.width())
+	g.XTicks = xTicks(x0, x1, lay.XTicks, dens.px, percent, lay.tickPx(), lay.width())
 	dt, ct := ticks(0, top, densityTicksN), chanceTicks()
 	// One x for both upright titles, clear of the labels level with
 	// either (newTwinIn leaves the room).
