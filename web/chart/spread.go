@@ -64,11 +64,14 @@ type spreadStrip struct {
 	// strip of 200 experts to a few kilobytes.
 	Intervals string
 	Medians   string
-	Axis      axesGeom
-	XTicks    []tickGeom
-	XLabelY   string
-	Truth     *truthGeom // the revealed true value's line, nil without one
-	Height    float64    // of the viewBox
+	// IntervalW and MedianW are the intervals' and the median dots'
+	// stroke widths, in step with the rows' height (stripRowStep).
+	IntervalW, MedianW string
+	Axis               axesGeom
+	XTicks             []tickGeom
+	XLabelY            string
+	Truth              *truthGeom // the revealed true value's line, nil without one
+	Height             float64    // of the viewBox
 }
 
 // spreadJoin is the room's one picture of the curves over the strip, in
@@ -93,10 +96,17 @@ type spreadModel struct {
 }
 
 // Strip layout: each row is spreadRowH units high, so 200 experts make a
-// strip about as tall as the density plot.
+// strip about as tall as the density plot. A smaller panel's rows share
+// spreadStripH, up to spreadRowMax units each (stripRowStep): at the
+// least step, 20 experts' intervals stood 2 units apart in a strip 46
+// units high, about 50 px on a phone, where no one line could be told
+// from the next. The room keeps the least step, its picture fitted to
+// the projector with the curves above taking the height.
 const (
-	spreadRowH = 1.0
-	spreadPad  = 6.0
+	spreadRowH   = 1.0
+	spreadRowMax = 6.0
+	spreadStripH = 120.0
+	spreadPad    = 6.0
 	// stripTruthRoom is the room above the strip for the true value's
 	// label, where no picture of the curves stands above it.
 	stripTruthRoom = 24.0
@@ -192,6 +202,17 @@ func newSpreadModel(v SpreadView) spreadModel {
 	return m
 }
 
+// stripRowStep is the height of each of n rows of a strip: they share
+// spreadStripH, between 2·spreadRowH and spreadRowMax each; in the room
+// (room) always the least.
+func stripRowStep(n int, room bool) float64 {
+	least := 2 * spreadRowH
+	if room || n <= 0 {
+		return least
+	}
+	return max(least, min(spreadRowMax, spreadStripH/float64(n)))
+}
+
 // newStrip lays out n intervals (the k-th's 5th, 50th and 95th
 // percentiles from at) under the curves' plots in lay, sharing their x
 // axis (same left edge, width and window) so the ticks fall in the same
@@ -223,12 +244,14 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		// narrowed (newTwinIn), set the strip's left edge and width too.
 		left, plotW = curves.Layout.Left, curves.Layout.PlotW
 	}
-	f := frame{Left: left, Top: top, Width: plotW, Height: float64(n)*spreadRowH*2 + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
+	step := stripRowStep(n, v.Room)
+	st.IntervalW, st.MedianW = coord(min(1.6, 0.4*step)), coord(min(4.4, 1.1*step))
+	f := frame{Left: left, Top: top, Width: plotW, Height: float64(n)*step + spreadPad, X0: x0, X1: x1, Y0: 0, Y1: 1}
 	clampX := func(x float64) string { return coord(f.px(math.Max(x0, math.Min(x1, x)))) }
 	var iv, md strings.Builder
 	for k := 0; k < n; k++ {
 		p5, p50, p95 := at(k)
-		y := coord(f.Top + spreadPad/2 + float64(k)*spreadRowH*2)
+		y := coord(f.Top + spreadPad/2 + (float64(k)+0.5)*step - spreadRowH)
 		iv.WriteString("M" + clampX(p5) + " " + y + "H" + clampX(p95))
 		md.WriteString("M" + clampX(p50) + " " + y + "h0")
 	}

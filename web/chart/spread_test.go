@@ -3,6 +3,7 @@ package chart
 import (
 	"github.com/parley-elicit/parley/web/chart/charttest"
 	"math/rand/v2"
+	"regexp"
 	"sort"
 	"strconv"
 	"strings"
@@ -144,5 +145,41 @@ func TestSpreadInPercentages(t *testing.T) {
 		if !strings.HasSuffix(tk.Label, "%") {
 			t.Errorf("percentages: x tick %q", tk.Label)
 		}
+	}
+}
+
+// TestSpreadRowsReadApartInASmallPanel: a strip of 20 experts drew its
+// intervals 2 units apart, 46 units high in all, about 50 px on a phone,
+// where no one line could be told from the next. A smaller panel's rows
+// share about as much height as a plot, up to 6 units each, with strokes
+// to match; 200 experts keep their 2 units a row, and the room, whose
+// picture is fitted to the projector under the curves, keeps the least.
+func TestSpreadRowsReadApartInASmallPanel(t *testing.T) {
+	step := func(v SpreadView) (float64, string) {
+		t.Helper()
+		html := render(t, Spread(v))
+		rows := charttest.SpreadRows(html)
+		if len(rows) < 2 {
+			t.Fatalf("%d rows", len(rows))
+		}
+		y0, _ := strconv.ParseFloat(rows[0][2], 64)
+		y1, _ := strconv.ParseFloat(rows[1][2], 64)
+		w := regexp.MustCompile(`class="spread-medians" d="[^"]*" stroke="#1B1B1B" stroke-width="([^"]+)"`).FindStringSubmatch(html)
+		if w == nil {
+			t.Fatal("no median dots' stroke width")
+		}
+		return y1 - y0, w[1]
+	}
+	v, _ := spreadInputs(20)
+	if d, w := step(v); d < 5.9 || w != "4.4" {
+		t.Errorf("20 experts: rows %v apart, dots %s wide; want 6 apart and 4.4 wide", d, w)
+	}
+	v.Room = true
+	if d, w := step(v); d != 2 || w != "2.2" {
+		t.Errorf("20 experts in the room: rows %v apart, dots %s wide; want the least, 2 and 2.2", d, w)
+	}
+	v, _ = spreadInputs(200)
+	if d, w := step(v); d != 2 || w != "2.2" {
+		t.Errorf("200 experts: rows %v apart, dots %s wide; want 2 and 2.2", d, w)
 	}
 }
