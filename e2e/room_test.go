@@ -377,6 +377,17 @@ func pictureFills(t *testing.T, p *person, screen string, px float64) {
 	if m.UnderTitle > 20 {
 		t.Errorf("on a %s screen %.0f px stand empty under the picture's axis title", screen, m.UnderTitle)
 	}
+	// The median strip beside it: its wide drawing, in a side column of
+	// 440 to 590 px, wrote its labels at about 12 px on 1280 and 1366 px
+	// projectors.
+	strip := eval[float64](p, "the median strip's tick labels on screen", `(() => {
+		const svg = Array.from(document.querySelectorAll(".room-side .chart-medians svg.chart-svg")).find(e => e.getClientRects().length);
+		return svg ? parseFloat(getComputedStyle(svg.querySelector(".tick-label")).fontSize) * svg.getScreenCTM().a : 0;
+	})()`)
+	t.Logf("on a %s screen the median strip's tick labels are %.1f px", screen, strip)
+	if strip < 14 {
+		t.Errorf("on a %s screen the median strip writes its tick labels at %.1f px, want at least 14", screen, strip)
+	}
 	if m.ToNotes > 24 {
 		t.Errorf("on a %s screen %.0f px stand empty between the picture and its notes", screen, m.ToNotes)
 	}
