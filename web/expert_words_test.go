@@ -703,4 +703,8 @@ func TestExpertsPanelTitlesItsPlotsAsTheirFit(t *testing.T) {
 	if strings.Contains(page[start:], "Density (upper plot)") || !strings.Contains(page[start:], "How likely each value of") {
 		t.Error("the panel's caption does not name its plots as their titles do")
 	}
+	// The panel's table is captioned in the words of the fit's own table.
+	if !strings.Contains(page[start:], "<caption>Each curve&#39;s 5%, middle (median) and 95% points</caption>") || strings.Contains(page, "Percentiles of each curve") {
+		t.Error("the panel's table is not captioned in the fit's words")
+	}
 }

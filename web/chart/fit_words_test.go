@@ -126,3 +126,27 @@ func TestExpertsPanelSpeaksAsTheirFit(t *testing.T) {
 		}
 	}
 }
+
+// The table under the panel an expert sees names what it holds in the
+// words of their fit's own table ("The curve's 5%, middle (median) and
+// 95% points"), where it read "Percentiles of each curve"; the
+// facilitator's panels keep the statistician's caption.
+func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
+	curves := []Curve{
+		{Label: "You", Role: RoleExpert, Dist: sbeta(2, 8, 0, 1)},
+		{Label: "Expert B", Role: RoleExpert, Dist: sbeta(3, 9, 0, 1)},
+	}
+	for _, c := range []struct {
+		forExpert bool
+		want      string
+	}{
+		{true, "Each curve's 5%, middle (median) and 95% points"},
+		{false, "Percentiles of each curve"},
+	} {
+		v := PanelView{ID: "p", Quantity: "Response rate", Lower: 0, Upper: 1, Curves: curves, ForExpert: c.forExpert}
+		ns := parse(t, renderLayout(t, Panel(v), "wide"))
+		if got := find(ns, "caption", ""); len(got) != 1 || got[0].Text != c.want {
+			t.Errorf("for the expert %v: the table's caption is %v, want %q", c.forExpert, got, c.want)
+		}
+	}
+}

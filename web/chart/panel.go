@@ -152,8 +152,13 @@ type panelModel struct {
 	Title    string
 	Desc     string
 	Legend   []legendGeom // the wide drawing's, for the table
-	Units    string
-	Invalid  string
+	// TableCaption is the table's caption: the statistician's
+	// "Percentiles of each curve", or on an expert's page the words of
+	// their fit's table, "each curve's 5%, middle (median) and 95%
+	// points".
+	TableCaption string
+	Units        string
+	Invalid      string
 }
 
 // Panel draws every curve's density and CDF on shared axes, each in its
@@ -227,6 +232,10 @@ func newPanelModel(v PanelView) panelModel {
 			c.Label, g.Lines[i].DashName, lg.P50, lg.P5, lg.P95))
 	}
 	m.Title = fmt.Sprintf("%d curves for %s", len(curves), axisTitle(v.Quantity, v.Units))
+	m.TableCaption = "Percentiles of each curve"
+	if v.ForExpert {
+		m.TableCaption = "Each curve's 5%, middle (median) and 95% points"
+	}
 	var b strings.Builder
 	// The plots' own axis titles, "density" (or "how likely") and
 	// "chance below", not the statistician's "cumulative probability".
