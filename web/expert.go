@@ -1203,7 +1203,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		for i, m := range others {
 			dists[i] = m.dist
 		}
-		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists, Percent: percent}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Others: dists, Percent: percent, ForExpert: true}
 		return
 	}
 	for _, m := range others {
@@ -1222,7 +1222,7 @@ func (v expertQuestionView) panelIntro() string {
 	if v.OwnCurve {
 		with = " With them are your current curve and the equal-weight pool of the whole panel at that close."
 	}
-	return "The other experts' fitted curves as they stood when round " + strconv.Itoa(v.FeedbackRound) +
+	return "The other experts' curves, each the one that best matches their answers, as they stood when round " + strconv.Itoa(v.FeedbackRound) +
 		" closed, without names: the letters follow an order that says nothing about who they are." + v.lettering() + with +
 		poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
 }
@@ -1252,10 +1252,12 @@ const poolMeaning = " The pool is every expert's curve averaged, each counting t
 func (v expertQuestionView) spreadIntro() string {
 	lead := "The equal-weight pool of the whole panel"
 	if v.OwnCurve {
-		lead = "Your current fitted curve with the equal-weight pool of the whole panel"
+		lead = "Your current curve with the equal-weight pool of the whole panel"
 	}
-	return lead + " as round " + strconv.Itoa(v.FeedbackRound) + " closed, and below it one line per other expert at that close, without names, " +
-		"from their 5th to their 95th percentile with a dot at their median, sorted by median." + poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
+	// The line's ends and dot in the words of the expert's own picture:
+	// the curve's 5% and 95% points and its middle (the median).
+	return lead + " as round " + strconv.Itoa(v.FeedbackRound) + " closed, and below it one line per other expert at that close, without names: " +
+		"each runs from the 5% point to the 95% point of that expert's curve, with a dot at its middle (the median), the lowest middle at the top." + poolMeaning + " Everyone sees the same panel through this round." + v.feedbackUse()
 }
 
 // feedbackUse says what the feedback is for: to reconsider an answer the

@@ -36,7 +36,9 @@ func TestLargePanelDrawsSpread(t *testing.T) {
 	if n := strings.Count(wideOnly(page[start:end]), "curve-cdf curve-expert"); n != 1 {
 		t.Errorf("%d expert CDF curves, want 1 (the asking expert's own)", n)
 	}
-	for _, want := range []string{`data-label="You"`, "Equal-weight pool", "The other 200 experts&#39; medians run from"} {
+	for _, want := range []string{`data-label="You"`, "Equal-weight pool", "The other 200 experts&#39; medians run from",
+		// In the words of the expert's own fit above it.
+		"One line per other expert, from the 5% point to the 95% point of their curve", "<caption>Each curve&#39;s 5%, middle (median) and 95% points</caption>"} {
 		if !strings.Contains(page, want) {
 			t.Errorf("page lacks %q", want)
 		}

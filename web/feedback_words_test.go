@@ -59,7 +59,7 @@ func TestFeedbackWordsFollowTheExpertsOwnAnswer(t *testing.T) {
 func TestSpreadWordsFollowTheExpertsOwnAnswer(t *testing.T) {
 	mine := expertQuestionView{FeedbackRound: 1, OwnCurve: true, History: []historyRow{{Round: 1}}}
 	none := expertQuestionView{FeedbackRound: 1}
-	if got := mine.spreadIntro(); !strings.HasPrefix(got, "Your current fitted curve with the equal-weight pool") || strings.Contains(got, "not saved") {
+	if got := mine.spreadIntro(); !strings.HasPrefix(got, "Your current curve with the equal-weight pool") || strings.Contains(got, "not saved") {
 		t.Errorf("with an answer: %q", got)
 	}
 	if got := none.spreadIntro(); !strings.HasPrefix(got, "The equal-weight pool of the whole panel as round 1 closed") ||
@@ -70,6 +70,22 @@ func TestSpreadWordsFollowTheExpertsOwnAnswer(t *testing.T) {
 	for _, got := range []string{mine.spreadIntro(), none.spreadIntro(), mine.panelIntro(), none.panelIntro()} {
 		if !strings.Contains(got, "The pool is every expert's curve averaged, each counting the same.") {
 			t.Errorf("the equal-weight pool is not explained: %q", got)
+		}
+	}
+	// The lines of the spread are said in the words of the expert's own
+	// picture, not "from their 5th to their 95th percentile", and the
+	// curves are the ones that best match each expert's answers, not
+	// "fitted".
+	for _, got := range []string{mine.spreadIntro(), none.spreadIntro()} {
+		if want := "each runs from the 5% point to the 95% point of that expert's curve, with a dot at its middle (the median), the lowest middle at the top."; !strings.Contains(got, want) {
+			t.Errorf("the spread's lines are not said in the picture's words: %q", got)
+		}
+	}
+	for _, got := range []string{mine.spreadIntro(), none.spreadIntro(), mine.panelIntro(), none.panelIntro()} {
+		for _, jargon := range []string{"percentile", "fitted"} {
+			if strings.Contains(got, jargon) {
+				t.Errorf("the words above the panel say %q: %q", jargon, got)
+			}
 		}
 	}
 	// After a reveal an expert who never answered cannot save any more.

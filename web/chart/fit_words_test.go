@@ -150,3 +150,43 @@ func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
 		}
 	}
 }
+
+// A large panel an expert sees under their fit, drawn as a spread, speaks
+// as their fit does: its curves' plots are titled "how likely" over
+// "chance below", their table is captioned in the fit's words, and each
+// other expert's line is said as running from their curve's 5% point to
+// its 95% point with a dot at its middle, where it said "from their 5th
+// to their 95th percentile". The facilitator's spread keeps the
+// statistician's words.
+func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
+	for _, c := range []struct {
+		forExpert             bool
+		upper, caption, lines string
+	}{
+		{true, "how likely", "Each curve's 5%, middle (median) and 95% points",
+			"One line per other expert, from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top."},
+		{false, "density", "Percentiles of each curve",
+			"One line per other expert, from their 5th to their 95th percentile, with a dot at their median, sorted by median."},
+	} {
+		v, _ := spreadInputs(20)
+		v.ForExpert = c.forExpert
+		ns := parse(t, renderLayout(t, Spread(v), "wide"))
+		var axes []string
+		for _, a := range find(ns, "text", "axis-title-y") {
+			axes = append(axes, a.Text)
+		}
+		if want := c.upper + "|chance below|experts"; strings.Join(axes, "|") != want {
+			t.Errorf("for the expert %v: the upright titles read %q, want %q", c.forExpert, axes, want)
+		}
+		var captions []string
+		for _, n := range find(ns, "caption", "") {
+			captions = append(captions, n.Text)
+		}
+		if len(captions) == 0 || captions[0] != c.caption {
+			t.Errorf("for the expert %v: the tables' captions are %q, want the curves' %q first", c.forExpert, captions, c.caption)
+		}
+		if m := newSpreadModel(v); !strings.HasPrefix(m.Desc, c.lines) {
+			t.Errorf("for the expert %v: the strip's caption reads\n%s\nwant it to start %q", c.forExpert, m.Desc, c.lines)
+		}
+	}
+}

@@ -36,11 +36,15 @@ type SpreadView struct {
 	// Room lays the curves out for the room view (PanelView's Room); the
 	// page writes their notes (SpreadNotes).
 	Room bool
+	// ForExpert writes the picture in the words of the expert's own fit,
+	// as PanelView's ForExpert does, and says each line's ends and dot as
+	// the fit names them: the curve's 5% and 95% points and its middle.
+	ForExpert bool
 }
 
 // curvesView is the view of the curves drawn above the strip.
 func (v SpreadView) curvesView(id string) PanelView {
-	return PanelView{ID: id, Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent, Truth: v.Truth, Room: v.Room}
+	return PanelView{ID: id, Quantity: v.Quantity, Units: v.Units, Lower: v.Lower, Upper: v.Upper, Curves: v.Curves, Percent: v.Percent, Truth: v.Truth, Room: v.Room, ForExpert: v.ForExpert}
 }
 
 // SpreadNotes are the notes Spread writes under its wide picture of the
@@ -185,9 +189,13 @@ func newSpreadModel(v SpreadView) spreadModel {
 	}
 	m.Caption = "The " + other + "experts' medians"
 	m.Title = fmt.Sprintf("The %s%d %s 90%% intervals for %s", other, len(iv), what, axisTitle(v.Quantity, v.Units))
-	m.Desc = fmt.Sprintf("%s, from their 5th to their 95th percentile, with a dot at their median, sorted by median. "+
+	each := "from their 5th to their 95th percentile, with a dot at their median, sorted by median"
+	if v.ForExpert {
+		each = "from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top"
+	}
+	m.Desc = fmt.Sprintf("%s, %s. "+
 		"The %s%d %s medians run from %s to %s; half of them lie between %s and %s.",
-		line, other, len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
+		line, each, other, len(iv), what, m.Quartiles[0].Value, m.Quartiles[4].Value, m.Quartiles[1].Value, m.Quartiles[3].Value)
 	if t := v.curvesView("").truth(); t != nil {
 		m.Desc += " " + truthWords(v.curvesView("").value(*t))
 	}
