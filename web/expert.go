@@ -246,7 +246,7 @@ type historyRow struct {
 // other probabilities below 0.2, otherwise a percentage ("a 47.5%
 // chance"), which reads better than "1 in 2" for a value near a half.
 // Every phrase but "no chance" and "certainty" ends in "chance", so it
-// fits "there is … the value is below" and "the fitted curve gives …
+// fits "there is … the value is below" and "the best-matching curve gives …
 // below it" alike.
 func chance(p float64) string {
 	switch {
@@ -324,7 +324,9 @@ func readBackWritten(p float64, plain, asPercent string, q workshop.Question, pe
 	return says + " there is " + chance(1-p) + " the value is above " + v + "."
 }
 
-// fittedBack says what the fitted Beta gives for the same statement.
+// fittedBack says what the fitted Beta gives for the same statement, in
+// the words of the picture under it: "the best-matching curve", as its
+// key names it, not the statistician's "fitted curve".
 func fittedBack(p, fittedP float64) string {
 	side, c := "below", fittedP
 	if p > 0.5 {
@@ -333,14 +335,14 @@ func fittedBack(p, fittedP float64) string {
 	if c == 1 {
 		// All of it, to double precision: "gives certainty below it"
 		// read badly.
-		return "The fitted curve puts all but a vanishing part of the chance " + side + " it."
+		return "The best-matching curve puts all but a vanishing part of the chance " + side + " it."
 	}
 	if c < 1e-6 || c > 1-1e-6 {
 		// A far tail: a true bound, not "no chance" or fourteen figures
 		// short of certainty.
-		return "The fitted curve gives a chance of " + chart.FormatChance(c) + " " + side + " it."
+		return "The best-matching curve gives a chance of " + chart.FormatChance(c) + " " + side + " it."
 	}
-	return "The fitted curve gives " + chance(c) + " " + side + " it."
+	return "The best-matching curve gives " + chance(c) + " " + side + " it."
 }
 
 // newAnswerForm lays out the question's form with the typed values; its
@@ -1086,12 +1088,15 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 		}
 		p.ReadBacks = append(p.ReadBacks, line)
 	}
-	// α and β are named with what they are, for an expert who is not a
-	// statistician; the picture's table and the history use them bare.
+	// The curve's points in the words of the picture under it (its 5%
+	// point, its middle, the median, and its 95% point); the Beta's
+	// parameters come last, as in the picture's caption, for the
+	// facilitator, and an expert who is not a statistician may pass them
+	// by.
 	ps := typedRange(q, percent, fit.Percentiles[:]...)
-	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the fitted curve puts the middle 90%% of the chance between %s and %s, with median %s. "+
-		"It is %s, a Beta distribution: α and β are the two numbers that set its shape.",
-		ps[0], ps[2], ps[1], p.Params))
+	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the curve that best matches %s answers has its middle (the median) at %s, "+
+		"and its 5%% and 95%% points at %s and %s: 90%% of the chance lies between them. In statistical terms the curve is %s.",
+		sp.pick("your", "%s's"), ps[1], ps[0], ps[2], p.Params))
 	p.Warnings = expertWarnings(q, fit, percent, sp)
 	return p
 }

@@ -662,14 +662,14 @@ func TestChanceReadsLikeOdds(t *testing.T) {
 		}
 	}
 	// A fit far out in a tail reads as a chance too.
-	if got, want := fittedBack(0.95, 0.99995), "The fitted curve gives less than a 1 in 1000 chance above it."; got != want {
+	if got, want := fittedBack(0.95, 0.99995), "The best-matching curve gives less than a 1 in 1000 chance above it."; got != want {
 		t.Errorf("fitted far in the tail: %q, want %q", got, want)
 	}
 	// A fitted chance of exactly 1 (to double precision) is not "certainty".
-	if got, want := fittedBack(0.05, 1), "The fitted curve puts all but a vanishing part of the chance below it."; got != want {
+	if got, want := fittedBack(0.05, 1), "The best-matching curve puts all but a vanishing part of the chance below it."; got != want {
 		t.Errorf("a fitted chance of 1: %q, want %q", got, want)
 	}
-	if got, want := fittedBack(0.95, 0), "The fitted curve puts all but a vanishing part of the chance above it."; got != want {
+	if got, want := fittedBack(0.95, 0), "The best-matching curve puts all but a vanishing part of the chance above it."; got != want {
 		t.Errorf("a fitted chance of 1 above: %q, want %q", got, want)
 	}
 	// For an expert who typed percentages, the read-back speaks in them.

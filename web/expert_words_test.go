@@ -3,6 +3,7 @@ package web
 import (
 	"context"
 	"errors"
+	"html"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -183,9 +184,9 @@ func TestIntervalPreviewSaysHowItWasRead(t *testing.T) {
 	if !strings.Contains(frag, want) {
 		t.Errorf("the preview does not say how the four values were read:\n%s", frag)
 	}
-	// α and β are said with what they are.
-	if !strings.Contains(frag, "It is Beta(α = ") || !strings.Contains(frag, "α and β are the two numbers that set its shape.") {
-		t.Errorf("the preview names α and β without saying what they are:\n%s", frag)
+	// The Beta comes last, in statistical terms.
+	if !strings.Contains(frag, "In statistical terms the curve is Beta(α = ") {
+		t.Errorf("the preview does not name the Beta last:\n%s", frag)
 	}
 	// Quantile answers need no such sentence.
 	if _, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4")); strings.Contains(frag, "four values") {
@@ -706,5 +707,55 @@ func TestExpertsPanelTitlesItsPlotsAsTheirFit(t *testing.T) {
 	// The panel's table is captioned in the words of the fit's own table.
 	if !strings.Contains(page[start:], "<caption>Each curve&#39;s 5%, middle (median) and 95% points</caption>") || strings.Contains(page, "Percentiles of each curve") {
 		t.Error("the panel's table is not captioned in the fit's words")
+	}
+}
+
+// What an expert reads around their fit speaks as the picture does (the
+// curve that best matches their answers, its 5% point, middle and 95%
+// point), where the invitation promised "the Beta distribution they
+// imply", the read-backs spoke of "the fitted curve" and closed on "It is
+// Beta(α = …, β = …), a Beta distribution", and the history's column read
+// "fitted curve". The Beta's parameters stay, last, for the facilitator.
+func TestPreviewSpeaksAsItsPicture(t *testing.T) {
+	g := newExpertRig(t)
+	_, page := g.get(g.qpath(0, g.q))
+	if !strings.Contains(page, "to see the curve that best matches them before you save.") || strings.Contains(page, "Beta distribution") {
+		t.Error("the invitation before a fit does not speak of the curve that best matches the answers")
+	}
+	_, frag := g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4"))
+	frag = html.UnescapeString(frag)
+	start, end := strings.Index(frag, `<ul class="readbacks">`), strings.Index(frag, "<svg")
+	if start < 0 || end < start {
+		t.Fatalf("no read-backs before the picture:\n%s", frag)
+	}
+	var lines []string
+	for _, m := range regexp.MustCompile(`<li>([^<]*)</li>`).FindAllStringSubmatch(frag[start:end], -1) {
+		lines = append(lines, m[1])
+	}
+	if len(lines) < 2 {
+		t.Fatalf("read-backs %q", lines)
+	}
+	last := lines[len(lines)-1]
+	beta := regexp.MustCompile(` In statistical terms the curve is Beta\(α = [0-9.]+, β = [0-9.]+\)\.$`)
+	if !strings.HasPrefix(last, "Taken together, the curve that best matches your answers has its middle (the median) at ") || !beta.MatchString(last) {
+		t.Errorf("the closing read-back reads %q", last)
+	}
+	lines[len(lines)-1] = beta.ReplaceAllString(last, "")
+	for _, line := range lines {
+		for _, jargon := range []string{"fitted", "Beta", "distribution", "percentile", "α"} {
+			if strings.Contains(line, jargon) {
+				t.Errorf("a read-back says %q: %q", jargon, line)
+			}
+		}
+	}
+	if !strings.Contains(frag[start:end], "The best-matching curve gives") {
+		t.Errorf("the read-backs do not say what the best-matching curve gives:\n%q", lines)
+	}
+	if resp, _ := g.post(g.qpath(0, g.q)+"/save", quantiles("0.05", "0.2", "0.4")); resp.StatusCode != http.StatusSeeOther {
+		t.Fatal("save failed")
+	}
+	_, page = g.get(g.qpath(0, g.q))
+	if !strings.Contains(page, `>best-matching curve</th>`) || !strings.Contains(page, `data-label="best-matching curve"`) || strings.Contains(page, "fitted curve") {
+		t.Error("the history's column is not the best-matching curve")
 	}
 }

@@ -113,13 +113,18 @@ func TestAnExpertsNarrowRangeReadsApart(t *testing.T) {
 	fit := elicit.Fit{Dist: d, Probs: q.Probs, Stated: xs, Fitted: xs, ProbErrors: make([]float64, 3), Percentiles: [3]float64(xs)}
 	pv := newPreview(q, fit, false, speaker{})
 	var said []string
+	points := 0
 	for _, line := range pv.ReadBacks {
 		if m := regexp.MustCompile(`the value is (?:below|above|as likely to be below) (\S+?)\.? `).FindStringSubmatch(line + " "); m != nil {
 			said = append(said, m[1])
 		}
-		if m := regexp.MustCompile(`middle 90% of the chance between (\S+) and (\S+), with median (\S+)\.`).FindStringSubmatch(line); m != nil {
+		if m := regexp.MustCompile(`has its middle \(the median\) at (\S+), and its 5% and 95% points at (\S+) and (\S+):`).FindStringSubmatch(line); m != nil {
 			apart(t, "the fit's points read back", m[1:]...)
+			points++
 		}
+	}
+	if points != 1 {
+		t.Errorf("the fit's points are not read back: %q", pv.ReadBacks)
 	}
 	if len(said) != 3 {
 		t.Fatalf("read-backs %q", pv.ReadBacks)

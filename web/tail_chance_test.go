@@ -60,7 +60,7 @@ func TestFarTailChanceReadsAsABound(t *testing.T) {
 		t.Errorf("the curve's values %q, want the bound named where the chance below is 0%% or 100%%", values)
 	}
 	// The read-back said the curve gives "no chance" above 0.6.
-	if !strings.Contains(body, "The fitted curve gives a chance of less than 0.0001% above it.") || strings.Contains(body, "gives no chance") {
+	if !strings.Contains(body, "The best-matching curve gives a chance of less than 0.0001% above it.") || strings.Contains(body, "gives no chance") {
 		t.Error("the read-back of the far-tail edge 0.6 is not a true bound")
 	}
 }
@@ -68,10 +68,10 @@ func TestFarTailChanceReadsAsABound(t *testing.T) {
 // The read-back of a stated value the curve puts far in its upper tail
 // says "more than 99.9999%", not fourteen figures.
 func TestFittedBackBoundsAFarTail(t *testing.T) {
-	if got, want := fittedBack(0.05, 0.99999999999997), "The fitted curve gives a chance of more than 99.9999% below it."; got != want {
+	if got, want := fittedBack(0.05, 0.99999999999997), "The best-matching curve gives a chance of more than 99.9999% below it."; got != want {
 		t.Errorf("fittedBack = %q, want %q", got, want)
 	}
-	if got, want := fittedBack(0.95, 0.9999997), "The fitted curve gives a chance of less than 0.0001% above it."; got != want {
+	if got, want := fittedBack(0.95, 0.9999997), "The best-matching curve gives a chance of less than 0.0001% above it."; got != want {
 		t.Errorf("fittedBack = %q, want %q", got, want)
 	}
 }
