@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"html"
 	"net/http"
 	"net/url"
@@ -157,5 +158,29 @@ func TestEntryRefusalNamesTheExpertsValue(t *testing.T) {
 	r, body = h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", form)
 	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(html.UnescapeString(body), "Must be larger than your 5% value.") {
 		t.Errorf("a decreasing answer on the expert's page: %d, and the refusal does not say \"your 5%% value\"", r.StatusCode)
+	}
+}
+
+// On the facilitator's entry page chips placed for an expert are the
+// expert's chips by name, in the picture and the closing read-back, as
+// on the expert's own page they are "your chips".
+func TestEntryChipsPreviewNamesTheExpertsChips(t *testing.T) {
+	h, ws, _, es, _ := seeded(t)
+	qc := workshop.Question{WorkshopID: ws.ID, Wording: "Place 20 chips on the share of valves that stick (invented).",
+		Quantity: "Sticking share", Lower: 0, Upper: 1, Format: workshop.FormatChips,
+		BinEdges: []float64{0, 0.1, 0.2, 0.3, 0.5, 1}, Chips: 20}
+	if err := h.db.AddQuestion(context.Background(), &qc); err != nil {
+		t.Fatal(err)
+	}
+	form := url.Values{"channel": {"phone"}, "counts[0]": {"2"}, "counts[1]": {"6"}, "counts[2]": {"7"}, "counts[3]": {"4"}, "counts[4]": {"1"}}
+	_, frag := h.post(entryPath(ws.ID, qc.ID, es[2].ID)+"/preview?fragment=1", form)
+	frag = html.UnescapeString(frag)
+	for _, want := range []string{"Priya Raman's chips put 10% below 0.1, the curve ", "the curve that best matches Priya Raman's chips has its middle", ">Priya Raman's chips below each edge<"} {
+		if !strings.Contains(frag, want) {
+			t.Errorf("the entry's chips preview lacks %q", want)
+		}
+	}
+	if m := youWords.FindString(frag); m != "" || strings.Contains(frag, "gave a chance") {
+		t.Errorf("the entry's chips preview speaks to the facilitator as the expert (%q) or of chances given", m)
 	}
 }

@@ -1060,6 +1060,7 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,
 			Lower: q.Lower, Upper: q.Upper, Dist: fit.Dist, Percentiles: fit.Percentiles,
 			Percent: percent && q.Format != workshop.FormatChips, Whose: sp.Name,
+			Chips: q.Format == workshop.FormatChips,
 		},
 	}
 	if q.Format != workshop.FormatChips {
@@ -1094,9 +1095,13 @@ func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *
 	// facilitator, and an expert who is not a statistician may pass them
 	// by.
 	ps := typedRange(q, percent, fit.Percentiles[:]...)
-	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the curve that best matches %s answers has its middle (the median) at %s, "+
+	answers := "answers"
+	if q.Format == workshop.FormatChips {
+		answers = "chips"
+	}
+	p.ReadBacks = append(p.ReadBacks, fmt.Sprintf("Taken together, the curve that best matches %s %s has its middle (the median) at %s, "+
 		"and its 5%% and 95%% points at %s and %s: 90%% of the chance lies between them. In statistical terms the curve is %s.",
-		sp.pick("your", "%s's"), ps[1], ps[0], ps[2], p.Params))
+		sp.pick("your", "%s's"), answers, ps[1], ps[0], ps[2], p.Params))
 	p.Warnings = expertWarnings(q, fit, percent, sp)
 	return p
 }

@@ -759,3 +759,34 @@ func TestPreviewSpeaksAsItsPicture(t *testing.T) {
 		t.Error("the history's column is not the best-matching curve")
 	}
 }
+
+// An expert who placed chips reads what their chips put below each edge,
+// in the picture and in the closing read-back, not that they "gave a
+// chance" they never typed; the facilitator entering chips for an expert
+// reads the expert's name.
+func TestChipsPreviewSpeaksOfChips(t *testing.T) {
+	g := newExpertRig(t)
+	form := url.Values{}
+	for i, c := range []string{"2", "6", "7", "4", "1"} {
+		form.Set("counts["+strconv.Itoa(i)+"]", c)
+	}
+	_, frag := g.post(g.qpath(0, g.qc)+"/preview?fragment=1", form)
+	frag = html.UnescapeString(frag)
+	for _, want := range []string{
+		"How close the curve comes to your chips (the circles on the lower curve): your chips put 10% below 0.1, the curve ",
+		"Taken together, the curve that best matches your chips has its middle (the median) at ",
+		">your chips below each edge<", ">bin edge<",
+	} {
+		if !strings.Contains(frag, want) {
+			t.Errorf("the chips preview lacks %q", want)
+		}
+	}
+	if strings.Contains(frag, "you gave") || strings.Contains(frag, "you said") {
+		t.Error("the chips preview says the expert gave chances")
+	}
+	// Typed values keep their words.
+	_, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4"))
+	if !strings.Contains(frag, "you gave a chance of 5% below 0.05") || strings.Contains(frag, "chips") {
+		t.Error("typed values do not keep their words")
+	}
+}

@@ -35,7 +35,7 @@ func TestFarTailChanceReadsAsABound(t *testing.T) {
 	}
 	// Edges 0.4 and 0.6 lie far in the upper tail: the fitted chance
 	// below 0.4 was "99.9999999%", below 0.6 (1 in double) "100%".
-	cell := regexp.MustCompile(`data-label="the curve&#39;s chance below yours" role="cell">([^<]*)<`)
+	cell := regexp.MustCompile(`data-label="the curve&#39;s chance below it" role="cell">([^<]*)<`)
 	var cells []string
 	for _, m := range cell.FindAllStringSubmatch(wideOnly(body), -1) {
 		cells = append(cells, m[1])

@@ -37,6 +37,20 @@ type FitView struct {
 	// judgement (the facilitator entering it for them); "" on the
 	// expert's own page, which speaks to "you".
 	Whose string
+	// Chips says the answer is chips placed on a board, not chances
+	// typed: each point is a bin's edge and the share of the chips below
+	// it, and the words say "your chips put 4.17% below 0.125" where
+	// typed values read "you gave a chance of 5% below 0.01".
+	Chips bool
+}
+
+// answers names what the expert gave: their "answers", or the "chips"
+// they placed.
+func (v FitView) answers() string {
+	if v.Chips {
+		return "chips"
+	}
+	return "answers"
 }
 
 // value writes a value of the quantity as the expert typed it.
@@ -137,10 +151,10 @@ type fitModel struct {
 	// Caption is the table's caption, which names the Beta.
 	Caption string
 	// The words that name whose answers they are: the key's, and the
-	// table's two headers.
-	KeyStated, SaidHeader, ChanceHeader string
-	Units                               string
-	Invalid                             string // non-empty when the view cannot be drawn
+	// table's headers.
+	KeyStated, BelowHeader, SaidHeader, ChanceHeader string
+	Units                                            string
+	Invalid                                          string // non-empty when the view cannot be drawn
 }
 
 // Fit draws the density and CDF of one expert's fitted Beta with their
@@ -208,14 +222,21 @@ func newFitModel(v FitView) fitModel {
 	for i, text := range FormatRangeWithin(fitted, v.Lower, v.Upper, v.Percent) {
 		m.Rows[i].Fitted = text + boundWords(fitted[i], probs[i], v.Lower, v.Upper)
 	}
+	m.BelowHeader = "chance below"
 	m.KeyStated, m.SaidHeader, m.ChanceHeader = "your answers", "you said", "the curve's chance below yours"
 	if v.Whose != "" {
 		m.KeyStated, m.SaidHeader, m.ChanceHeader = v.Whose+"'s answers", v.Whose+" said", "the curve's chance below that"
 	}
+	if v.Chips {
+		// Nobody said the edges or typed the chances: the chips put a
+		// share below each edge of the board.
+		m.KeyStated = v.whose(false) + " chips below each edge"
+		m.BelowHeader, m.SaidHeader, m.ChanceHeader = v.whose(false)+" chips below", "bin edge", "the curve's chance below it"
+	}
 
 	m.Params = fmt.Sprintf("Beta(α = %s, β = %s)", FormatShape(v.Dist.Alpha), FormatShape(v.Dist.Beta.Beta))
-	m.Caption = fmt.Sprintf("%s answers and the curve, %s", v.whose(true), m.Params)
-	m.Title = fmt.Sprintf("%s answers on %s and the curve that best matches them", v.whose(true), axisTitle(v.Quantity, v.Units))
+	m.Caption = fmt.Sprintf("%s %s and the curve, %s", v.whose(true), v.answers(), m.Params)
+	m.Title = fmt.Sprintf("%s %s on %s and the curve that best matches them", v.whose(true), v.answers(), axisTitle(v.Quantity, v.Units))
 	m.Desc = fitDescription(v, m, g)
 	return m
 }
@@ -355,8 +376,8 @@ func fitMarks(v FitView, g twinGeom, pcts [3]string) []markGeom {
 // axes, and last the Beta's parameters.
 func fitDescription(v FitView, m fitModel, g twinGeom) string {
 	var b strings.Builder
-	fmt.Fprintf(&b, "The picture shows the smooth curve that best matches %s answers on %s, between the bounds %s and %s. ",
-		v.whose(false), axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
+	fmt.Fprintf(&b, "The picture shows the smooth curve that best matches %s %s on %s, between the bounds %s and %s. ",
+		v.whose(false), v.answers(), axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
 	fmt.Fprintf(&b, "The upper curve is higher where %s the value more likely; the lower one gives the chance of a value below each point. ", v.thinks())
 	fmt.Fprintf(&b, "The curve's 5%% point is %s, its middle (the median) %s and its 95%% point %s. ",
 		m.Pcts[0], m.Pcts[1], m.Pcts[2])
@@ -365,8 +386,14 @@ func fitDescription(v FitView, m fitModel, g twinGeom) string {
 		for i, r := range m.Rows {
 			parts[i] = fmt.Sprintf("%s below %s, the curve %s", r.Chance, r.Stated, r.FittedChance)
 		}
-		fmt.Fprintf(&b, "How close the curve comes to %s answers (the circles on the lower curve): %s gave a chance of %s. ",
-			v.whose(false), v.who(), strings.Join(parts, "; "))
+		// Chips are placed, not typed: their share below an edge is no
+		// chance the expert gave.
+		gave := v.who() + " gave a chance of"
+		if v.Chips {
+			gave = v.whose(false) + " chips put"
+		}
+		fmt.Fprintf(&b, "How close the curve comes to %s %s (the circles on the lower curve): %s %s. ",
+			v.whose(false), v.answers(), gave, strings.Join(parts, "; "))
 	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")

@@ -190,3 +190,53 @@ func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
 		}
 	}
 }
+
+// An expert who placed chips typed no chances: the picture says what
+// their chips put below each edge of the board ("your chips put 4.17%
+// below 0.125"), where it said "you gave a chance of 4.17% below 0.125",
+// and its key and table name the chips and the edges, where they said
+// "your answers" and "you said 0.125". On the facilitator's entry page
+// the chips are the expert's by name.
+func TestFitSpeaksOfChips(t *testing.T) {
+	d := sbeta(2.2, 9, 0, 1)
+	v := fitViewOf(d, Point{0.125, 1.0 / 24}, Point{0.25, 0.5}, Point{0.5, 23.0 / 24})
+	v.Chips = true
+	for _, c := range []struct {
+		whose                          string
+		chips, below, said, key, title string
+	}{
+		{"", "your chips", "your chips below", "bin edge", "your chips below each edge", "Your chips on Failure rate (per demand) and the curve that best matches them"},
+		{"Priya Raman", "Priya Raman's chips", "Priya Raman's chips below", "bin edge", "Priya Raman's chips below each edge",
+			"Priya Raman's chips on Failure rate (per demand) and the curve that best matches them"},
+	} {
+		v.Whose = c.whose
+		m := newFitModel(v)
+		want := "How close the curve comes to " + c.chips + " (the circles on the lower curve): " + c.chips + " put 4.17% below 0.125, the curve " + m.Rows[0].FittedChance +
+			"; 50% below 0.25, the curve " + m.Rows[1].FittedChance + "; " + m.Rows[2].Chance + " below 0.5, the curve " + m.Rows[2].FittedChance + "."
+		if !strings.Contains(m.Desc, want) || strings.Contains(m.Desc, "gave") {
+			t.Errorf("%q: the caption reads\n%s\nwant it to say %q", c.whose, m.Desc, want)
+		}
+		ns := parse(t, renderLayout(t, Fit(v), "wide"))
+		var key, heads []string
+		for _, k := range find(ns, "span", "key-item") {
+			key = append(key, k.Text)
+		}
+		for _, h := range find(ns, "th", "") {
+			heads = append(heads, h.Text)
+		}
+		if len(key) == 0 || key[0] != c.key {
+			t.Errorf("%q: the key reads %q, want %q first", c.whose, key, c.key)
+		}
+		if len(heads) < 4 || heads[0] != c.below || heads[1] != c.said || heads[3] != "the curve's chance below it" {
+			t.Errorf("%q: the table's headers read %q", c.whose, heads)
+		}
+		if title := find(ns, "title", ""); len(title) != 1 || title[0].Text != c.title {
+			t.Errorf("%q: the title is %v, want %q", c.whose, title, c.title)
+		}
+	}
+	// Typed answers keep their words.
+	v.Chips, v.Whose = false, ""
+	if m := newFitModel(v); !strings.Contains(m.Desc, "you gave a chance of 4.17% below 0.125") {
+		t.Errorf("typed answers: the caption reads\n%s", m.Desc)
+	}
+}
