@@ -406,6 +406,10 @@ func TestEveryPageOnAPhone(t *testing.T) {
 		t.Fatal(err)
 	}
 	carmen.sees("the board's fit", fmt.Sprintf("Beta(α = %s", fmtFour(plain.Dist.Alpha)))
+	// Its words say what her chips put below each edge: she typed no
+	// chances.
+	carmen.sees("the board's fit in the chips' words", "your chips put 4.17% below", "your chips below each edge")
+	shots.part(carmen, "#preview", "device-chips-fit-390")
 
 	// Facilitator pages in round 1.
 	facPages := map[string]string{
