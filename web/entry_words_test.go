@@ -175,7 +175,8 @@ func TestEntryChipsPreviewNamesTheExpertsChips(t *testing.T) {
 	form := url.Values{"channel": {"phone"}, "counts[0]": {"2"}, "counts[1]": {"6"}, "counts[2]": {"7"}, "counts[3]": {"4"}, "counts[4]": {"1"}}
 	_, frag := h.post(entryPath(ws.ID, qc.ID, es[2].ID)+"/preview?fragment=1", form)
 	frag = html.UnescapeString(frag)
-	for _, want := range []string{"Priya Raman's chips put 10% below 0.1, the curve ", "the curve that best matches Priya Raman's chips has its middle", ">Priya Raman's chips below each edge<"} {
+	for _, want := range []string{"Priya Raman's chips put 10% below 0.1, the curve ", "the curve that best matches Priya Raman's chips has its middle", ">Priya Raman's chips below each edge<",
+		"Priya Raman's chips give a 1 in 10 chance the value is below 0.1."} {
 		if !strings.Contains(frag, want) {
 			t.Errorf("the entry's chips preview lacks %q", want)
 		}

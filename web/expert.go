@@ -314,6 +314,18 @@ func readBackWritten(p float64, plain, asPercent string, q workshop.Question, pe
 		// The expert typed percentages: speak in them.
 		v = asPercent
 	}
+	if q.Format == workshop.FormatChips {
+		// Chips are placed, not typed: the share of them below an edge is
+		// the chance they give, as the picture says "your chips put".
+		chips := sp.pick("Your chips", "%s's chips")
+		switch {
+		case p == 0.5:
+			return chips + " make the value as likely to be below " + v + " as above it."
+		case p < 0.5:
+			return chips + " give " + chance(p) + " the value is below " + v + "."
+		}
+		return chips + " give " + chance(1-p) + " the value is above " + v + "."
+	}
 	says := sp.pick("You are saying", "%s is saying")
 	switch {
 	case p == 0.5:

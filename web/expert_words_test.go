@@ -784,6 +784,11 @@ func TestChipsPreviewSpeaksOfChips(t *testing.T) {
 	if strings.Contains(frag, "you gave") || strings.Contains(frag, "you said") {
 		t.Error("the chips preview says the expert gave chances")
 	}
+	// The read-backs say what the chips give, not what the expert is
+	// "saying": 2 of 20 chips below 0.1.
+	if !strings.Contains(frag, "Your chips give a 1 in 10 chance the value is below 0.1.") || strings.Contains(frag, "You are saying") {
+		t.Error("the chips read-backs do not say what the chips give")
+	}
 	// Typed values keep their words.
 	_, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4"))
 	if !strings.Contains(frag, "you gave a chance of 5% below 0.05") || strings.Contains(frag, "chips") {
