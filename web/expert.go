@@ -314,26 +314,19 @@ func readBackWritten(p float64, plain, asPercent string, q workshop.Question, pe
 		// The expert typed percentages: speak in them.
 		v = asPercent
 	}
+	who, gives, even := sp.pick("You are saying", "%s is saying"), " there is ", " the value is as likely to be below "
 	if q.Format == workshop.FormatChips {
 		// Chips are placed, not typed: the share of them below an edge is
 		// the chance they give, as the picture says "your chips put".
-		chips := sp.pick("Your chips", "%s's chips")
-		switch {
-		case p == 0.5:
-			return chips + " make the value as likely to be below " + v + " as above it."
-		case p < 0.5:
-			return chips + " give " + chance(p) + " the value is below " + v + "."
-		}
-		return chips + " give " + chance(1-p) + " the value is above " + v + "."
+		who, gives, even = sp.pick("Your chips", "%s's chips"), " give ", " make the value as likely to be below "
 	}
-	says := sp.pick("You are saying", "%s is saying")
 	switch {
 	case p == 0.5:
-		return says + " the value is as likely to be below " + v + " as above it."
+		return who + even + v + " as above it."
 	case p < 0.5:
-		return says + " there is " + chance(p) + " the value is below " + v + "."
+		return who + gives + chance(p) + " the value is below " + v + "."
 	}
-	return says + " there is " + chance(1-p) + " the value is above " + v + "."
+	return who + gives + chance(1-p) + " the value is above " + v + "."
 }
 
 // fittedBack says what the fitted Beta gives for the same statement, in
