@@ -327,7 +327,7 @@ func readAsLine(q workshop.Question, values []float64) string {
 // facilitator's message gives.
 func boundsShownWords(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) string {
 	lo, hi := elicit.BoundsShown(fit.Dist, fit.Shown())
-	numbers := sp.pick("your numbers", "%s's numbers")
+	numbers := sp.numbersOf(q)
 	var s string
 	switch {
 	case lo && hi:
@@ -367,7 +367,7 @@ func warningsAsTyped(q workshop.Question, fit elicit.Fit, percent bool) []string
 // them.
 func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) []string {
 	var out []string
-	numbers := sp.pick("your numbers", "%s's numbers")
+	numbers := sp.numbersOf(q)
 	for _, w := range fit.Warnings {
 		switch w.Code {
 		case elicit.WarnUShaped:

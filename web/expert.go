@@ -287,6 +287,17 @@ func (sp speaker) pick(you, named string) string {
 	return strings.ReplaceAll(named, "%s", sp.Name)
 }
 
+// numbersOf names the answer an expert gave to q, as the sentences about
+// it speak of it: "your numbers", or a chips board's "your chips", which
+// were placed, not typed ("What your numbers imply" stood over a board of
+// chips).
+func (sp speaker) numbersOf(q workshop.Question) string {
+	if q.Format == workshop.FormatChips {
+		return sp.pick("your chips", "%s's chips")
+	}
+	return sp.pick("your numbers", "%s's numbers")
+}
+
 // upperFirst starts s with a capital, for a sentence that begins with a
 // name such as "the panel".
 func upperFirst(s string) string {
@@ -1059,7 +1070,7 @@ func answerSummary(q workshop.Question, a workshop.Answer) string {
 // sp whose judgement it is.
 func newPreview(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) *previewView {
 	p := &previewView{
-		Heading: "What " + sp.pick("your", "%s's") + " numbers imply",
+		Heading: "What " + sp.numbersOf(q) + " imply",
 		Params:  fmt.Sprintf("Beta(α = %s, β = %s)", chart.FormatShape(fit.Dist.Alpha), chart.FormatShape(fit.Dist.Beta.Beta)),
 		Fit: chart.FitView{
 			ID: "fit-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units,

@@ -776,6 +776,9 @@ func TestChipsPreviewSpeaksOfChips(t *testing.T) {
 		"How close the curve comes to your chips (the circles on the lower curve): your chips put 10% below 0.1, the curve ",
 		"Taken together, the curve that best matches your chips has its middle (the median) at ",
 		">your chips below each edge<", ">bin edge<",
+		// The heading over the read-backs: "What your numbers imply"
+		// stood over a board of chips.
+		"What your chips imply",
 	} {
 		if !strings.Contains(frag, want) {
 			t.Errorf("the chips preview lacks %q", want)
@@ -791,7 +794,7 @@ func TestChipsPreviewSpeaksOfChips(t *testing.T) {
 	}
 	// Typed values keep their words.
 	_, frag = g.post(g.qpath(0, g.q)+"/preview?fragment=1", quantiles("0.05", "0.2", "0.4"))
-	if !strings.Contains(frag, "you gave a chance of 5% below 0.05") || strings.Contains(frag, "chips") {
+	if !strings.Contains(frag, "you gave a chance of 5% below 0.05") || !strings.Contains(frag, "What your numbers imply") || strings.Contains(frag, "chips") {
 		t.Error("typed values do not keep their words")
 	}
 }
