@@ -340,7 +340,11 @@ func boundsShownWords(q workshop.Question, fit elicit.Fit, percent bool, sp spea
 		l := typedBack(q, q.Lower, percent)
 		s = "Part of the curve that fits " + numbers + " lies so close to " + l + " that it is written as " + l + " here, though it lies a hair above."
 	}
-	return s + " A curve pressed this hard against the edge usually means " + sp.pick("your values need", "the values need") + " another look."
+	values := sp.pick("your values need", "the values need")
+	if q.Format == workshop.FormatChips {
+		values = sp.pick("your chips need", "the chips need")
+	}
+	return s + " A curve pressed this hard against the edge usually means " + values + " another look."
 }
 
 // warningsAsTyped are a fit's warnings as elicit words them for the
@@ -368,29 +372,44 @@ func warningsAsTyped(q workshop.Question, fit elicit.Fit, percent bool) []string
 func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speaker) []string {
 	var out []string
 	numbers := sp.numbersOf(q)
+	// adjust is the advice for typed values, or for a chips board, whose
+	// chips are moved, not typed.
+	adjust := func(values, chips string) string {
+		if q.Format == workshop.FormatChips {
+			return chips
+		}
+		return values
+	}
 	for _, w := range fit.Warnings {
 		switch w.Code {
 		case elicit.WarnUShaped:
 			out = append(out, "The curve that fits "+numbers+" piles up at both ends: it says the value is most likely close to "+
 				chart.FormatValue(q.Lower)+" or to "+chart.FormatValue(q.Upper)+", and least likely in between. "+
-				sp.pick("If that is not what you mean, bring your outer values in towards your middle one.",
-					"If that is not what %s means, bring the outer values in towards the middle one."))
+				adjust(sp.pick("If that is not what you mean, bring your outer values in towards your middle one.",
+					"If that is not what %s means, bring the outer values in towards the middle one."),
+					sp.pick("If that is not what you mean, move chips from the end bins towards the middle.",
+						"If that is not what %s means, move chips from the end bins towards the middle.")))
 		case elicit.WarnJShaped:
 			end := chart.FormatValue(q.Lower)
 			if fit.Dist.Alpha >= 1 {
 				end = chart.FormatValue(q.Upper)
 			}
 			out = append(out, "The curve that fits "+numbers+" is highest right at "+end+": it says values at the very edge are the most likely. "+
-				sp.pick("If you expect", "If %s expects")+" the value to sit a little away from "+end+", adjust "+sp.pick("your", "the")+" values.")
+				sp.pick("If you expect", "If %s expects")+" the value to sit a little away from "+end+", "+adjust("adjust "+sp.pick("your", "the")+" values.", "move a chip or two away from that end."))
 		case elicit.WarnPoorFit:
 			out = append(out, "No curve of this kind matches all "+numbers+" closely; the sentences above show how far it is from each. "+
-				sp.pick("You may want to adjust one of them.", "%s may want to adjust one of them."))
+				adjust(sp.pick("You may want to adjust one of them.", "%s may want to adjust one of them."),
+					sp.pick("You may want to move a chip or two.", "%s may want to move a chip or two.")))
 		case elicit.WarnTailMisfit:
-			out = append(out, "The curve does not match how far out one of "+sp.pick("your", "%s's")+" outer values lies: the sentences above show the chance it gives beyond each. "+
-				sp.pick("You may want to adjust your values.", "%s may want to adjust the values."))
+			out = append(out, adjust("The curve does not match how far out one of "+sp.pick("your", "%s's")+" outer values lies: the sentences above show the chance it gives beyond each. "+
+				sp.pick("You may want to adjust your values.", "%s may want to adjust the values."),
+				"The curve does not match how far out "+sp.pick("your", "%s's")+" outermost chips lie: the sentences above show the chance it gives beyond each edge. "+
+					sp.pick("You may want to move a chip or two.", "%s may want to move a chip or two.")))
 		case elicit.WarnNearCertainty:
-			out = append(out, sp.pick("Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.",
-				"%s's values are very close together: they say they are nearly certain of the value. If they are less sure than that, widen them."))
+			out = append(out, adjust(sp.pick("Your values are very close together: you are saying you are nearly certain of the value. If you are less sure than that, widen them.",
+				"%s's values are very close together: they say they are nearly certain of the value. If they are less sure than that, widen them."),
+				sp.pick("Your chips sit in so narrow a range that they say you are nearly certain of the value. If you are less sure than that, spread them over more bins.",
+					"%s's chips sit in so narrow a range that they say %s is nearly certain of the value. If they are less sure than that, spread them over more bins.")))
 		case elicit.WarnBeyondDouble:
 			out = append(out, boundsShownWords(q, fit, percent, sp))
 		default:

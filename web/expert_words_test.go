@@ -798,3 +798,32 @@ func TestChipsPreviewSpeaksOfChips(t *testing.T) {
 		t.Error("typed values do not keep their words")
 	}
 }
+
+// TestChipsWarningsSayToMoveChips: a chips board's warnings advise what
+// an expert placing chips can do, move them, where they said "bring your
+// outer values in towards your middle one" and "adjust your values" to
+// an expert who typed none (invented boards on [0, 0.1, 0.2, 0.3, 0.5, 1]).
+func TestChipsWarningsSayToMoveChips(t *testing.T) {
+	g := newExpertRig(t)
+	for _, c := range []struct {
+		counts []string
+		want   string
+	}{
+		{[]string{"9", "1", "0", "0", "10"}, "The curve that fits your chips piles up at both ends: it says the value is most likely close to 0 or to 1, and least likely in between. If that is not what you mean, move chips from the end bins towards the middle."},
+		{[]string{"18", "1", "1", "0", "0"}, "The curve that fits your chips is highest right at 0: it says values at the very edge are the most likely. If you expect the value to sit a little away from 0, move a chip or two away from that end."},
+		{[]string{"1", "0", "0", "1", "18"}, "A curve pressed this hard against the edge usually means your chips need another look."},
+	} {
+		form := url.Values{}
+		for i, n := range c.counts {
+			form.Set("counts["+strconv.Itoa(i)+"]", n)
+		}
+		_, frag := g.post(g.qpath(0, g.qc)+"/preview?fragment=1", form)
+		frag = html.UnescapeString(frag)
+		if !strings.Contains(frag, c.want) {
+			t.Errorf("chips %v: the warnings lack %q", c.counts, c.want)
+		}
+		if strings.Contains(frag, "your outer values") || strings.Contains(frag, "adjust your values") || strings.Contains(frag, "your values need") {
+			t.Errorf("chips %v: a warning speaks of typed values", c.counts)
+		}
+	}
+}
