@@ -317,6 +317,21 @@ func TestOverviewSaysYetOnlyWhereAnAnswerMayCome(t *testing.T) {
 	if c := cell(open); !strings.Contains(c, yet) {
 		t.Errorf("round closed: the cell says %q, want %q", c, yet)
 	}
+	// Through a revoked link no answer can come: "no answer yet" beside
+	// a revoked expert promised one.
+	priya := -1
+	es, _ := h.db.Experts(ctx, ws.ID)
+	for i, e := range es {
+		if e.Name == "Priya Raman" {
+			priya = i
+		}
+	}
+	if err := h.db.RevokeExpert(ctx, es[priya].ID, "Left the panel (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	if c := cell(open); !strings.Contains(c, ">no answer (access revoked)<") || strings.Contains(c, yet) {
+		t.Errorf("access revoked: the cell says %q, want that no answer comes through a revoked link", c)
+	}
 	if err := h.db.SetArchived(ctx, ws.ID, true, "Finished (invented)."); err != nil {
 		t.Fatal(err)
 	}

@@ -235,6 +235,16 @@ func (v workshopView) questionsAsRows() bool {
 	return n > maxAnswerColumns && n > len(v.Experts)
 }
 
+// revoked reports whether the expert's access is revoked.
+func (v workshopView) revoked(expertID int64) bool {
+	for _, e := range v.Experts {
+		if e.ID == expertID {
+			return e.Revoked
+		}
+	}
+	return false
+}
+
 func (v workshopView) hasRevoked() bool {
 	for _, e := range v.Experts {
 		if e.Revoked {
