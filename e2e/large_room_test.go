@@ -83,4 +83,23 @@ func TestLargePanelRoomInBrowser(t *testing.T) {
 		}
 		shots.take(fac, "large-room-"+strconv.FormatInt(w, 10))
 	}
+	// The question's own page draws the curves and the strip as two
+	// pictures: the strip stood in a narrower column beside the medians'
+	// table, so the true value's two lines stood 70 px apart at 1366 px.
+	// Both now take the column's width, one under the other.
+	panel := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10)
+	for _, w := range []int64{1366, 1920} {
+		fac.viewport(w, 900, false)
+		if st := fac.open(panel); st != http.StatusOK {
+			t.Fatalf("the question's panel: %d", st)
+		}
+		lines := eval[[]float64](fac, "the true value's lines on the panel", `Array.from(document.querySelectorAll(".chart-spread svg.chart-svg")).filter(e => e.getClientRects().length).flatMap(p => Array.from(p.querySelectorAll(".truth-line"))).map(l => { const r = l.getBoundingClientRect(); return (r.left + r.right) / 2; })`)
+		if len(lines) != 2 {
+			t.Errorf("the panel at %d px draws the true value %d times, want over the curves and in the strip", w, len(lines))
+		} else if d := lines[0] - lines[1]; d > 1.5 || d < -1.5 {
+			t.Errorf("the panel at %d px: the true value stands at x %.1f over the curves and at %.1f in the strip", w, lines[0], lines[1])
+		}
+		fits(t, fac, "the large panel's question page at "+strconv.FormatInt(w, 10)+" px", w)
+		shots.take(fac, "large-panel-page-"+strconv.FormatInt(w, 10))
+	}
 }

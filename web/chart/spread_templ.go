@@ -150,7 +150,7 @@ func spreadFigure(m spreadModel) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			if len(m.Strips) > 0 {
-				templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 11, "<div class=\"chart-with-table\"><figure class=\"chart\">")
+				templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 11, "<div class=\"chart-with-table chart-strip-block\"><figure class=\"chart\">")
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
