@@ -1,9 +1,6 @@
 package chart
 
 import (
-	"regexp"
-	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -21,12 +18,7 @@ func TestMedianStripNamesItsBox(t *testing.T) {
 		}
 		c := MedianStrip(MedianStripView{ID: "m", Quantity: "share", Lower: 0, Upper: 1, Labels: labels, Medians: ms, Truth: ptr(0.0413)})
 		for _, lay := range []string{"wide", "compact"} {
-			html := renderLayout(t, c, lay)
-			pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
-			ns := parse(t, pic)
-			vb := strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])
-			w, _ := strconv.ParseFloat(vb[2], 64)
-			h, _ := strconv.ParseFloat(vb[3], 64)
+			ns, w, h := drawing(t, renderLayout(t, c, lay), lay)
 			entries := map[string]node{}
 			for _, n := range find(ns, "text", "legend-label") {
 				entries[n.Text] = n

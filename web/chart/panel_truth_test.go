@@ -1,7 +1,6 @@
 package chart
 
 import (
-	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -25,11 +24,7 @@ func TestPanelDrawsTheRevealedTrueValue(t *testing.T) {
 		c := Panel(PanelView{ID: "p", Quantity: "share", Lower: 0, Upper: 1, Curves: curves(), Truth: ptr(truth)})
 		want := "true value " + FormatWithin(truth, 0, 1, false)
 		for _, lay := range []string{"wide", "compact"} {
-			html := renderLayout(t, c, lay)
-			pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
-			ns := parse(t, pic)
-			vb := strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])
-			w, _ := strconv.ParseFloat(vb[2], 64)
+			ns, w, _ := drawing(t, renderLayout(t, c, lay), lay)
 			labels := find(ns, "text", "truth-label")
 			lines := find(ns, "line", "truth-line")
 			if len(labels) != 1 || len(lines) != 1 {

@@ -2,7 +2,6 @@ package chart
 
 import (
 	"regexp"
-	"strconv"
 	"strings"
 	"testing"
 )
@@ -17,18 +16,6 @@ func roomCurves() []Curve {
 		{Label: "Expert D", Role: RoleExpert, Dist: sbeta(5, 90, 0, 1)},
 		{Label: "Equal-weight pool", Role: RolePool, Dist: sbeta(4, 70, 0, 1)},
 	}
-}
-
-// drawing is the picture of c in one layout, parsed, with its viewBox's
-// width and height.
-func drawing(t *testing.T, html, lay string) ([]node, float64, float64) {
-	t.Helper()
-	pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
-	ns := parse(t, pic)
-	vb := strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])
-	w, _ := strconv.ParseFloat(vb[2], 64)
-	h, _ := strconv.ParseFloat(vb[3], 64)
-	return ns, w, h
 }
 
 // lowestTitle is the baseline of the x axis title's last line.

@@ -62,6 +62,18 @@ func renderLayout(t *testing.T, c templ.Component, keep string) string {
 	return regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-`+drop+`".*?</svg>`).ReplaceAllString(b.String(), "")
 }
 
+// drawing is the first picture of html (renderLayout's) in the layout
+// lay, parsed, with its viewBox's width and height.
+func drawing(t *testing.T, html, lay string) ([]node, float64, float64) {
+	t.Helper()
+	pic := regexp.MustCompile(`(?s)<svg class="chart-svg[^"]*chart-` + lay + `".*?</svg>`).FindString(html)
+	ns := parse(t, pic)
+	vb := strings.Fields(find(ns, "svg", "chart-"+lay)[0].Attr["viewBox"])
+	w, _ := strconv.ParseFloat(vb[2], 64)
+	h, _ := strconv.ParseFloat(vb[3], 64)
+	return ns, w, h
+}
+
 // parse reads rendered HTML as XML (templ writes every element closed and
 // every attribute quoted) and fails the test if it is not well formed.
 func parse(t *testing.T, html string) []node {
