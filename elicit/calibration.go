@@ -227,7 +227,10 @@ func (s Scores) Weights() map[string]float64 {
 // intrinsic ranges (Cooke 1991 calls it the decision maker). When
 // opt.Alpha is nil, α is the candidate that maximises the pool's C·I; the
 // candidates are the experts' calibration scores (α = 0 gives the same
-// weights as the smallest), and ties go to the smaller α.
+// weights as the smallest), ties go to the smaller α, and only the
+// candidates whose pool is scored on the most questions compete (a pool
+// has no answer on a question that only experts below the cut-off
+// answered; see bestAlpha).
 //
 // Every question answered must have a finite realisation; a realisation
 // must lie within the question's bounds and quantiles strictly inside
@@ -577,6 +580,16 @@ func (s score) below(t score) bool {
 // whose weighted pool has the largest combined score; ties go to the
 // smaller α. The pools' scores compare as ln C + ln I, which stay
 // ordered where C·I underflows.
+//
+// Only pools scored on the same calibration questions are compared: a
+// cut-off that leaves a question answered only by experts below it has a
+// pool with no answer there, scored on fewer questions, and is passed
+// over: only the pools scored on the most questions are compared. A
+// calibration score on fewer realisations is a weaker test (2·N·I
+// shrinks with N), so without this rule experts who skipped the
+// questions they would have missed could win the pool its best score.
+// (Our rule, no source: Cooke's classical model assumes every expert
+// answers every calibration question.)
 func (s *seedSet) bestAlpha(es []ExpertScore) score {
 	var cands []score
 	for _, e := range es {
@@ -585,14 +598,25 @@ func (s *seedSet) bestAlpha(es []ExpertScore) score {
 		}
 	}
 	sort.Slice(cands, func(i, j int) bool { return cands[i].below(cands[j]) })
-	best, bestScore := cands[0], math.Inf(-1)
+	type tried struct {
+		a     score
+		value float64 // ln C + ln I of the pool
+		n     int     // questions the pool is scored on
+	}
+	var pools []tried
+	covered := 0
 	for i, a := range cands {
 		if i > 0 && !cands[i-1].below(a) {
 			continue
 		}
 		pool, _ := s.weightedPool(cutWeights(es, a))
-		if v := pool.LogCalibration + math.Log(pool.Information); v > bestScore {
-			best, bestScore = a, v
+		pools = append(pools, tried{a, pool.LogCalibration + math.Log(pool.Information), pool.N})
+		covered = max(covered, pool.N)
+	}
+	best, bestScore := cands[0], math.Inf(-1)
+	for _, p := range pools {
+		if p.n == covered && p.value > bestScore {
+			best, bestScore = p.a, p.value
 		}
 	}
 	return best

@@ -962,3 +962,64 @@ func manySeeds() ([]SeedAssessment, map[string]float64) {
 	}
 	return as, real
 }
+
+// TestOptimisedCutOffScoresEveryPoolOnTheSameQuestions: the optimised
+// cut-off compares pools scored on the same calibration questions. In the
+// invented inverter_seeds_skipped.csv Esi answers four of six questions,
+// narrowly and well, and Farid misses the surge question that only he and
+// Gita answered. A cut-off at Esi's score keeps only her: its pool is
+// scored on her four questions, never meets the surge question and scores
+// best (C·I = 1.53 against 0.42); it is passed over for Gita's, whose pool
+// answers all six. The scores are checked against SciPy in cmd/parley's
+// TestCalibrateAgainstSciPy; here, which cut-off wins.
+func TestOptimisedCutOffScoresEveryPoolOnTheSameQuestions(t *testing.T) {
+	type row struct {
+		expert, question string
+		real             float64
+		q                []float64
+	}
+	rows := []row{
+		{"Esi", "predecessor", 3.1, []float64{2.8, 3.2, 3.6}},
+		{"Farid", "predecessor", 3.1, []float64{2.0, 3.5, 5.0}},
+		{"Gita", "predecessor", 3.1, []float64{1.0, 3.0, 8.0}},
+		{"Esi", "fan", 1.4, []float64{1.2, 1.45, 1.7}},
+		{"Farid", "fan", 1.4, []float64{0.9, 1.6, 2.5}},
+		{"Gita", "fan", 1.4, []float64{0.5, 1.5, 4.0}},
+		{"Esi", "capacitor", 0.8, []float64{0.7, 0.78, 0.9}},
+		{"Farid", "capacitor", 0.8, []float64{0.5, 0.9, 1.5}},
+		{"Gita", "capacitor", 0.8, []float64{0.2, 1.0, 3.0}},
+		{"Esi", "repair", 6.5, []float64{5.5, 6.3, 7.2}},
+		{"Farid", "repair", 6.5, []float64{4, 6, 9}},
+		{"Gita", "repair", 6.5, []float64{2, 7, 14}},
+		{"Farid", "firmware", 2.2, []float64{1.5, 2.5, 4.0}},
+		{"Gita", "firmware", 2.2, []float64{0.5, 2.0, 6.0}},
+		{"Farid", "surge", 0.5, []float64{1.0, 2.0, 4.0}},
+		{"Gita", "surge", 0.5, []float64{0.2, 0.8, 3.0}},
+	}
+	var as []SeedAssessment
+	real := map[string]float64{}
+	for _, r := range rows {
+		as = append(as, SeedAssessment{Expert: r.expert, Question: r.question, Probs: seedProbs, Quantiles: r.q})
+		real[r.question] = r.real
+	}
+	s, err := ClassicalModel(as, real, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	esi, gita := expertScore(t, s, "Esi"), expertScore(t, s, "Gita")
+	if s.Alpha != gita.Calibration || s.Pooled.N != 6 || esi.Weight == 1 {
+		t.Errorf("optimised: α %v (Gita's score %v), pool on %d questions, Esi's weight %v; want Gita's score, 6, below 1",
+			s.Alpha, gita.Calibration, s.Pooled.N, esi.Weight)
+	}
+	// The cut-off passed over: its pool is scored on four questions and
+	// would have scored better.
+	a := esi.Calibration
+	only, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &a})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if only.Pooled.N != 4 || !(only.Pooled.Combined > s.Pooled.Combined) {
+		t.Errorf("cut-off at Esi's score: pool on %d questions, C·I %v (optimised %v); want 4 and above",
+			only.Pooled.N, only.Pooled.Combined, s.Pooled.Combined)
+	}
+}

@@ -1289,3 +1289,42 @@ func TestCustomWeightsComeBackAsTyped(t *testing.T) {
 		}
 	}
 }
+
+// TestPoolOnFewerQuestionsIsSaidSo: a fixed cut-off that keeps only an
+// expert who skipped a calibration question leaves the weighted pool
+// without an answer there; the page says the pool's scores rest on fewer
+// questions instead of "the same". Eli (invented) answers two of the three
+// scored questions, one true value in each middle bin: s = (0, ½, ½, 0),
+// 2·N·I = 4 ln(1/0.9) and C = 0.936 (chi-square tail on 3 degrees of
+// freedom, by the formula of elicit.ClassicalModel), above every other
+// expert's, so α = 0.9 keeps only him.
+func TestPoolOnFewerQuestionsIsSaidSo(t *testing.T) {
+	p := newSeedPanel(t)
+	h := p.h
+	ctx := context.Background()
+	_, hash, err := newToken()
+	if err != nil {
+		t.Fatal(err)
+	}
+	eli := workshop.Expert{WorkshopID: p.ws.ID, Name: "Eli Moss"}
+	if err := h.db.AddExpert(ctx, &eli, hash); err != nil {
+		t.Fatal(err)
+	}
+	for j, v := range [][]float64{{0.2, 0.35, 0.5}, {0.3, 0.5, 0.7}} {
+		rv := workshop.Revision{QuestionID: p.seeds[j].ID, ExpertID: eli.ID, Answer: workshop.Answer{Values: v}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	p.enterTruths(t, false)
+	_, body := h.get(p.path() + "?alpha=0.9")
+	pool := block(body, "scores-table-pool")
+	if !strings.Contains(pool, "on only 2 of the 3 questions (no expert at or above the cut-off answered the other one, so the pool has no answer there):") {
+		t.Errorf("fixed cut-off keeping only Eli: %s", pool)
+	}
+	// Optimised, the cut-off is chosen among pools scored on all three.
+	_, body = h.get(p.path())
+	if pool := block(body, "scores-table-pool"); !strings.Contains(pool, "on the same 3 questions") {
+		t.Errorf("optimised: %s", pool)
+	}
+}

@@ -41,7 +41,7 @@ func TestScoresBelowTheDoubleRangeAreWritten(t *testing.T) {
 	}
 	sc, experts := scoredPanel(t, as, real)
 	var b bytes.Buffer
-	if err := scoresTable("t", experts, sc.Pooled, sc.Alpha, sc.LogAlpha).Render(context.Background(), &b); err != nil {
+	if err := scoresTable("t", experts, sc.Pooled, len(sc.Questions), sc.Alpha, sc.LogAlpha).Render(context.Background(), &b); err != nil {
 		t.Fatal(err)
 	}
 	table := b.String()

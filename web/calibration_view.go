@@ -57,6 +57,19 @@ func wordList(names []string) string {
 	return strings.Join(names[:len(names)-1], ", ") + " and " + names[len(names)-1]
 }
 
+// pooledOn says which questions the performance-weighted pool is scored
+// on: the same as the experts', or, where a fixed cut-off leaves a
+// question that only experts below it answered, fewer of them (the pool
+// has no answer there, and its calibration score is weaker evidence).
+func pooledOn(n, scored int) string {
+	if n >= scored {
+		return "on the same " + strconv.Itoa(n) + " " + plural(n, "question", "questions")
+	}
+	left := scored - n
+	return "on only " + strconv.Itoa(n) + " of the " + strconv.Itoa(scored) + " questions (no expert at or above the cut-off answered the other " +
+		plural(left, "one", strconv.Itoa(left)) + ", so the pool has no answer there)"
+}
+
 // alphaSentence says what the cut-off is and how it was chosen.
 func alphaSentence(alpha float64, logAlpha *float64, rule string) string {
 	if rule == workshop.AlphaFixed {

@@ -20,7 +20,11 @@ The model follows Cooke (1991), Experts in Uncertainty, ch. 12:
     pool on a question mixes the experts' minimal-information distributions
     with those weights and is scored like an expert from its quantiles;
   - alpha, unless fixed, is the candidate among the experts' calibration
-    scores that maximises the pool's C * I (ties to the smaller alpha);
+    scores that maximises the pool's C * I (ties to the smaller alpha),
+    compared only among the candidates whose pool is scored on the most
+    questions (a pool that no weighted expert answered a question for skips
+    it; Parley's rule, no source: Cooke's model assumes every expert answers
+    every question);
   - a question whose `background` cell is "log-uniform" is scored against the
     log-uniform background: every value (quantiles, realisation, bounds) is
     replaced by its natural logarithm before any of the above, so the
@@ -48,6 +52,7 @@ FILES = [
     "testdata/calibration/inverter_seeds.csv",
     "testdata/calibration/inverter_seeds_bounded.csv",
     "testdata/calibration/inverter_seeds_log.csv",
+    "testdata/calibration/inverter_seeds_skipped.csv",
 ]
 K = 0.1
 
@@ -129,7 +134,7 @@ def model(probs, data, real, bounds, alpha=None):
             dq = [float(np.interp(pp, F, grid)) for pp in probs]
             c[bin_of(dq, real[q])] += 1
             inf.append(info(dq, q))
-        return cal(c), math.fsum(inf) / len(inf)
+        return cal(c), math.fsum(inf) / len(inf), len(inf)
 
     def weights(a):
         w = {e: (sc[e][0] * sc[e][1] if sc[e][0] >= a else 0.0) for e in experts}
@@ -137,14 +142,15 @@ def model(probs, data, real, bounds, alpha=None):
         return {e: v / t for e, v in w.items()}
 
     if alpha is None:
+        tried = [(a,) + pooled(weights(a)) for a in sorted({sc[e][0] for e in experts})]
+        most = max(n for _, _, _, n in tried)
         best = None
-        for a in sorted({sc[e][0] for e in experts}):
-            C, I = pooled(weights(a))
-            if best is None or C * I > best[1]:
+        for a, C, I, n in tried:
+            if n == most and (best is None or C * I > best[1]):
                 best = (a, C * I)
         alpha = best[0]
     w = weights(alpha)
-    return alpha, sc, w, pooled(w)
+    return alpha, sc, w, pooled(w)[:2]
 
 
 def main():
