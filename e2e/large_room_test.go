@@ -55,6 +55,12 @@ func TestLargePanelRoomInBrowser(t *testing.T) {
 			}
 		} else {
 			fitsScreen(t, fac, int(w), int(h))
+			if over := overlappingParts(fac); len(over) > 0 {
+				t.Errorf("%s: the large panel's room view draws parts over one another: %q", screen, over)
+			}
+			if over := overlappingWords(fac); len(over) > 0 {
+				t.Errorf("%s: the large panel's room pictures draw words over one another or outside themselves: %q", screen, over)
+			}
 		}
 		got := eval[shown](fac, "the true value and the strip's legend", `(() => {
 			const shown = e => e.getClientRects().length > 0;

@@ -132,7 +132,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	}
 	fitsScreen(t, room, 1920, 1080)
 	notesReadable(t, room, "1920×1080", 17)
-	pictureFills(t, room, "1920×1080", 14)
+	pictureFills(t, room, "1920×1080", 14, 17)
 	shots.take(room, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
 	// An older projector: 1366×768. The picture's notes (the axis zoomed
@@ -142,15 +142,18 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	room.open(roomURL(q1))
 	fitsScreen(t, room, 1366, 768)
 	notesReadable(t, room, "1366×768", 16)
-	pictureFills(t, room, "1366×768", 14)
+	pictureFills(t, room, "1366×768", 14, 16)
 	shots.take(room, "room-02b-question-1-1366x768")
 	// A 1280×720 projector, the smallest in common use: the wording takes
-	// three lines and the notes wrap, and the view still fits.
+	// three lines and the notes wrap, and the view still fits. The
+	// picture's width sets its size here: with 5/8 of the width its tick
+	// labels were 13.7 px; with 16/25 they reach 14, the median strip's
+	// staying at 15.
 	room.viewport(1280, 720, false)
 	room.open(roomURL(q1))
 	fitsScreen(t, room, 1280, 720)
 	notesReadable(t, room, "1280×720", 16)
-	pictureFills(t, room, "1280×720", 13.5)
+	pictureFills(t, room, "1280×720", 14, 15)
 	shots.take(room, "room-02c-question-1-1280x720")
 	// The facilitator looking at the room view on a phone: the page flows
 	// in one column and scrolls, and no part is drawn over another (held
@@ -365,9 +368,11 @@ func measurePicture(t *testing.T, p *person) pictureMeasure {
 // height: no empty band under its axis's title (the notes' room, where
 // the page writes them itself) or between it and its notes (a picture
 // held to 66vh), little of the column left under them, and tick labels of
-// at least px on the screen. The picture is as large as the column's
-// width or what the header and notes leave of the height allows.
-func pictureFills(t *testing.T, p *person, screen string, px float64) {
+// at least px on the screen, the median strip's beside it of at least
+// stripPx, and no part of the view and no two of its pictures' words
+// drawn over one another. The picture is as large as the column's width
+// or what the header and notes leave of the height allows.
+func pictureFills(t *testing.T, p *person, screen string, px, stripPx float64) {
 	t.Helper()
 	m := measurePicture(t, p)
 	t.Logf("on a %s screen the room's tick labels are %.1f px", screen, m.TickPx)
@@ -385,8 +390,14 @@ func pictureFills(t *testing.T, p *person, screen string, px float64) {
 		return svg ? parseFloat(getComputedStyle(svg.querySelector(".tick-label")).fontSize) * svg.getScreenCTM().a : 0;
 	})()`)
 	t.Logf("on a %s screen the median strip's tick labels are %.1f px", screen, strip)
-	if strip < 14 {
-		t.Errorf("on a %s screen the median strip writes its tick labels at %.1f px, want at least 14", screen, strip)
+	if strip < stripPx {
+		t.Errorf("on a %s screen the median strip writes its tick labels at %.1f px, want at least %.1f", screen, strip, stripPx)
+	}
+	if over := overlappingParts(p); len(over) > 0 {
+		t.Errorf("on a %s screen the room view draws parts over one another: %q", screen, over)
+	}
+	if over := overlappingWords(p); len(over) > 0 {
+		t.Errorf("on a %s screen the room's pictures draw words over one another or outside themselves: %q", screen, over)
 	}
 	if m.ToNotes > 24 {
 		t.Errorf("on a %s screen %.0f px stand empty between the picture and its notes", screen, m.ToNotes)
@@ -408,6 +419,33 @@ func overlappingParts(p *person) []string {
 		for (let i = 0; i < parts.length; i++) for (let j = i + 1; j < parts.length; j++) {
 			const a = parts[i][1].getBoundingClientRect(), b = parts[j][1].getBoundingClientRect();
 			if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(parts[i][0] + " over " + parts[j][0]);
+		}
+		return out;
+	})()`)
+}
+
+// overlappingWords names the words of the room's shown pictures (the
+// curves and the median strip) drawn over one another within a picture,
+// or reaching outside it.
+func overlappingWords(p *person) []string {
+	return eval[[]string](p, "words drawn over one another", `(() => {
+		const out = [];
+		const pics = Array.from(document.querySelectorAll(".room-view svg.chart-svg")).filter(e => e.getClientRects().length && getComputedStyle(e).display !== "none");
+		for (const svg of pics) {
+			const box = svg.getBoundingClientRect();
+			const words = Array.from(svg.querySelectorAll("text")).filter(e => e.getClientRects().length && getComputedStyle(e).display !== "none" && e.textContent.trim() !== "");
+			const rects = words.map(e => e.getBoundingClientRect());
+			for (let i = 0; i < words.length; i++) {
+				const a = rects[i];
+				// A word's box is its font's line, a fifth of its size
+				// above its capitals: that much may stand above or below.
+				const em = parseFloat(getComputedStyle(words[i]).fontSize) * svg.getScreenCTM().a, v = 1 + 0.2 * em;
+				if (a.left < box.left - 1 || a.right > box.right + 1 || a.top < box.top - v || a.bottom > box.bottom + v) out.push(words[i].textContent + " outside its picture");
+				for (let j = i + 1; j < words.length; j++) {
+					const b = rects[j];
+					if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(words[i].textContent + " over " + words[j].textContent);
+				}
+			}
 		}
 		return out;
 	})()`)
