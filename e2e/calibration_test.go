@@ -5,7 +5,9 @@ import (
 	"fmt"
 	"net/http"
 	"strconv"
+	"strings"
 	"testing"
+	"time"
 
 	"github.com/chromedp/chromedp"
 
@@ -100,7 +102,24 @@ func TestCalibrationScreenInBrowser(t *testing.T) {
 		if x := eval[float64](fac, "cut-off position", `document.querySelector("#weight-map .map-cut").getBoundingClientRect().x`); x < 0 || x > float64(width) {
 			t.Errorf("at %d px the cut-off is drawn off screen, at x = %.0f", width, x)
 		}
+		weightMapSaysWhatLiesBeyond(t, fac, width)
 		shots.take(fac, "calibration-"+strconv.Itoa(width))
+	}
+	// A cut-off the facilitator fixes lower: from the map's right end its
+	// label is out of view on a phone (α = 0.003), or it is in view only
+	// from its left end (α = 0.001). The page brings it into view, with
+	// the experts who earn weight right of it.
+	fac.viewport(390, 900, true)
+	for _, a := range []string{"0.003", "0.001"} {
+		fac.open(page + "?alpha=" + a)
+		got := eval[mapOnScreen](fac, "the weight map on a phone", mapOnScreenJS)
+		if !got.CutShown || !got.MoreLeft || !got.MoreRight {
+			t.Errorf("on a phone with the cut-off fixed at %s the map shows its cut-off's label: %v, shadows at the left %v and the right %v, want all", a, got.CutShown, got.MoreLeft, got.MoreRight)
+		}
+		if len(got.WeightedShown) == 0 {
+			t.Errorf("on a phone with the cut-off fixed at %s the map shows none of the experts who earn weight", a)
+		}
+		shots.part(fac, "#weight-map", "calibration-map-alpha-"+a+"-390")
 	}
 
 	// Reveal every true value and apply performance weights through the
@@ -223,5 +242,79 @@ func TestSteadinessTableOfManyQuestionsFits(t *testing.T) {
 		}
 		fac.sees("the reruns", "0.00005055")
 		fits(t, fac, "the calibration page with five target questions", w)
+	}
+}
+
+// mapOnScreen is the weight map as a phone shows it in its box.
+type mapOnScreen struct {
+	Scrolls       bool     `json:"scrolls"`       // wider than its box
+	CutShown      bool     `json:"cutShown"`      // the cut-off's line and label wholly in the box
+	WeightedShown []string `json:"weightedShown"` // the weighted experts' discs wholly in the box, by calibration
+	Weighted      int      `json:"weighted"`      // how many discs earn weight
+	LeftLabel     bool     `json:"leftLabel"`     // the leftmost expert's label wholly in the box
+	MoreLeft      bool     `json:"moreLeft"`      // a shadow stands at the box's left edge
+	MoreRight     bool     `json:"moreRight"`     // and at its right edge
+	Hint          string   `json:"hint"`          // the hint above the map, if shown on screen
+}
+
+const mapOnScreenJS = `(() => {
+	const fig = document.getElementById("weight-map"), box = fig.querySelector(".map-scroll"), frame = fig.querySelector(".map-frame");
+	const b = box.getBoundingClientRect();
+	const inBox = e => { const r = e.getBoundingClientRect(); return r.left >= b.left - 0.5 && r.right <= b.right + 0.5; };
+	const labels = Array.from(fig.querySelectorAll(".map-label")).sort((x, y) => x.getBoundingClientRect().left - y.getBoundingClientRect().left);
+	const weighted = Array.from(fig.querySelectorAll("circle.map-weighted"));
+	const shadow = side => { if (!frame) return false; const s = getComputedStyle(frame, side); return s.display !== "none" && s.content !== "none" && s.content !== "normal"; };
+	const hint = fig.querySelector(".map-scroll-hint"), h = hint ? hint.getBoundingClientRect() : {left: -1, right: -1};
+	return {
+		scrolls: box.scrollWidth > box.clientWidth + 1,
+		cutShown: inBox(fig.querySelector(".map-cut")) && inBox(fig.querySelector(".map-cut-label")),
+		weightedShown: weighted.filter(inBox).map(c => c.dataset.calibration),
+		weighted: weighted.length,
+		leftLabel: labels.length > 0 && inBox(labels[0]),
+		moreLeft: shadow("::before"),
+		moreRight: shadow("::after"),
+		hint: hint && hint.getClientRects().length && h.left >= 0 && h.right <= window.innerWidth ? hint.innerText : "",
+	};
+})()`
+
+// weightMapSaysWhatLiesBeyond: on a phone the weight map is wider than
+// the screen and opens at its right end, at the cut-off and the experts
+// who earn weight; its left-hand label (Ole Brandt's) is out of view.
+// That was said by nothing but the label cut at the box's edge: a line
+// above the map now says more of it lies to the left, and a shadow
+// stands at each edge beyond which more lies. Scrolled to its left end,
+// the label is whole and the shadow moves to the right edge. Where the
+// map fits (1366 px) there is neither.
+func weightMapSaysWhatLiesBeyond(t *testing.T, p *person, width int) {
+	t.Helper()
+	got := eval[mapOnScreen](p, "the weight map", mapOnScreenJS)
+	if width >= 600 {
+		if got.Scrolls || got.MoreLeft || got.MoreRight || got.Hint != "" {
+			t.Errorf("at %d px the weight map scrolls %v, has shadows at the left %v and the right %v, and the hint %q, want none", width, got.Scrolls, got.MoreLeft, got.MoreRight, got.Hint)
+		}
+		return
+	}
+	if !got.Scrolls {
+		t.Fatalf("at %d px the weight map fits its box: the test expects it to scroll", width)
+	}
+	if !got.CutShown || len(got.WeightedShown) != got.Weighted || got.Weighted == 0 {
+		t.Errorf("at %d px the weight map opens with its cut-off shown %v and %d of its %d weighted experts, want the cut-off and all", width, got.CutShown, len(got.WeightedShown), got.Weighted)
+	}
+	if got.LeftLabel {
+		t.Errorf("at %d px the weight map opens with its left-hand label in view: the test expects it out of view", width)
+	}
+	if !strings.HasPrefix(got.Hint, "← More of the map lies to the left") {
+		t.Errorf("at %d px the hint above the weight map reads %q, want it to say more lies to the left", width, got.Hint)
+	}
+	if !got.MoreLeft || got.MoreRight {
+		t.Errorf("at %d px the weight map opens with shadows at its left %v and right %v edges, want only the left", width, got.MoreLeft, got.MoreRight)
+	}
+	eval[bool](p, "scroll the map to its left end", `(() => { const b = document.querySelector("#weight-map .map-scroll"); b.scrollLeft = -b.scrollWidth; b.dispatchEvent(new Event("scroll")); return true; })()`)
+	if err := p.poll(2*time.Second, `!document.getElementById("weight-map").hasAttribute("data-more-left")`); err != nil {
+		t.Errorf("at %d px the weight map scrolled to its left end still says more lies to the left: %v", width, err)
+	}
+	got = eval[mapOnScreen](p, "the weight map at its left end", mapOnScreenJS)
+	if !got.LeftLabel || got.MoreLeft || !got.MoreRight {
+		t.Errorf("at %d px the weight map at its left end shows its left-hand label %v, shadows at its left %v and right %v edges, want the label and only the right", width, got.LeftLabel, got.MoreLeft, got.MoreRight)
 	}
 }

@@ -67,6 +67,31 @@ const (
 	// mapLowest is the smallest decade drawn; lower scores sit on the
 	// left edge and their labels say so.
 	mapLowest = -12.0
+	// On a phone the map is drawn mapPhonePx wide (34rem, chart.css) in a
+	// box as narrow as mapPhoneBoxPx (a 360 px phone's), and scrolls; a
+	// shadow mapEdgePx wide (1.1rem) marks an edge with more beyond it.
+	mapPhonePx    = 544.0
+	mapPhoneBoxPx = 308.0
+	mapEdgePx     = 17.6
+)
+
+// mapOpensLeft says whether a phone opens the weight map at its left
+// end: only when the cut-off's label (x0 to x1 in SVG units, the map w
+// units wide) is in view from there and not from the right end. The
+// right end holds the experts who earn weight and, for most cut-offs,
+// the cut-off; for a cut-off far to the left it holds neither.
+func mapOpensLeft(x0, x1, w float64) bool {
+	unit := w / mapPhonePx // SVG units to a pixel
+	shown, edge := mapPhoneBoxPx*unit, mapEdgePx*unit
+	return x1 <= shown-edge && x0 < w-shown+edge
+}
+
+// Hints above the weight map on a phone, where it is wider than the
+// screen: which way the rest of it lies and what is there.
+const (
+	mapHintLeft      = "← More of the map lies to the left: lower calibration scores and the information score's scale. It opens at the cut-off; swipe it sideways to see the rest."
+	mapHintLeftNoCut = "← More of the map lies to the left: lower calibration scores and the information score's scale. Swipe it sideways to see the rest."
+	mapHintRight     = "More of the map lies to the right →: higher calibration scores. It opens at the cut-off; swipe it sideways to see the rest."
 )
 
 type mapPoint struct {
@@ -118,6 +143,14 @@ type scoresModel struct {
 	Cut     mapCut
 	Points  []mapPoint
 	Pool    *mapDiamond
+	// OpensLeft: on a phone the map opens at its left end, the only one
+	// from which its cut-off's label is in view (mapOpensLeft); Hint
+	// says which way the rest of it lies. ShowCut: a cut-off that leaves
+	// experts out, which a phone brings into view (page.js); a cut-off
+	// of 0 does not, and the map opens at its right end.
+	OpensLeft bool
+	ShowCut   bool
+	Hint      string
 }
 
 // Scores draws the weight map with its caption.
@@ -268,6 +301,16 @@ func newScoresModel(v ScoresView) scoresModel {
 		cutBox.x0, cutBox.x1 = cx-cutW, cx
 	}
 	placed := []labelBox{cutBox}
+	m.ShowCut = cutting
+	m.OpensLeft = cutting && mapOpensLeft(cutBox.x0, cutBox.x1, mapLeft+mapWidth+mapRight)
+	switch {
+	case m.OpensLeft:
+		m.Hint = mapHintRight
+	case cutting:
+		m.Hint = mapHintLeft
+	default:
+		m.Hint = mapHintLeftNoCut
+	}
 	// Every disc, and the pool's diamond, is in place before any label:
 	// a label kept off the other labels but not off the discs, and the
 	// demo's "weighted pool" was written over Priya Raman's disc.

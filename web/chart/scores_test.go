@@ -1,6 +1,7 @@
 package chart
 
 import (
+	stdhtml "html"
 	"math"
 	"regexp"
 	"strconv"
@@ -399,6 +400,70 @@ func TestWeightMapLabelsFitAsDrawn(t *testing.T) {
 					t.Errorf("calibration %.3g: labels %d and %d overlap", c, j, i)
 				}
 			}
+		}
+	}
+}
+
+// TestWeightMapOpensWhereItsCutOffIs: on a phone the map is wider than
+// the screen and opens at its right end, where the experts who earn
+// weight stand; only a cut-off whose label the left end shows, and the
+// right end does not, opens it at its left end. The hint above it says
+// which way the rest lies, and a cut-off of 0 (no one left out) is not
+// brought into view. The scores are the demo's; the cut-offs are those
+// a facilitator may fix.
+func TestWeightMapOpensWhereItsCutOffIs(t *testing.T) {
+	rows := []ScoreRow{
+		{Expert: "Ines Varga", Calibration: 0.8392, Information: 0.2078, Weight: 0.5},
+		{Expert: "Tomas Lindqvist", Calibration: 0.808, Information: 0.168, Weight: 0.4},
+		{Expert: "Priya Raman", Calibration: 0.1878, Information: 0.1573, Weight: 0.1},
+		{Expert: "Ole Brandt", Calibration: 0.0003602, Information: 2.656},
+	}
+	for _, c := range []struct {
+		alpha         float64
+		left, showCut bool
+		hint          string
+	}{
+		{0.8392, false, true, "← More of the map lies to the left: lower calibration scores and the information score's scale. It opens at the cut-off"},
+		{0.003, false, true, "← More of the map lies to the left"}, // neither end shows it: page.js brings it in
+		{0.001, true, true, "More of the map lies to the right →: higher calibration scores. It opens at the cut-off"},
+		{0, false, false, "← More of the map lies to the left: lower calibration scores and the information score's scale. Swipe it sideways"},
+	} {
+		html := render(t, Scores(ScoresView{Alpha: c.alpha, Rows: rows}))
+		fig := regexp.MustCompile(`<figure class="([^"]*)"`).FindStringSubmatch(html)
+		if fig == nil {
+			t.Fatalf("α = %g: no figure", c.alpha)
+		}
+		if got := strings.Contains(fig[1], "map-opens-left"); got != c.left {
+			t.Errorf("α = %g: the map opens at its left end: %v, want %v (figure class %q)", c.alpha, got, c.left, fig[1])
+		}
+		if got := strings.Contains(html, `class="map-scroll" data-show-cut`); got != c.showCut {
+			t.Errorf("α = %g: the cut-off is brought into view: %v, want %v", c.alpha, got, c.showCut)
+		}
+		hint := regexp.MustCompile(`<p class="map-scroll-hint[^"]*"[^>]*>([^<]*)</p>`).FindStringSubmatch(html)
+		if hint == nil || !strings.HasPrefix(stdhtml.UnescapeString(hint[1]), c.hint) {
+			t.Errorf("α = %g: the hint above the map reads %q, want it to begin %q", c.alpha, hint, c.hint)
+		}
+	}
+}
+
+// TestMapOpensLeftAtAPhonesWidth checks mapOpensLeft against the phone's
+// geometry by hand: the map's 632 units drawn 544 px wide in a 308 px
+// box show 357.8 units from either end, less the 17.6 px (20.4 units)
+// shadow at the edge with more beyond it.
+func TestMapOpensLeftAtAPhonesWidth(t *testing.T) {
+	const w = 632.0
+	for _, c := range []struct {
+		x0, x1 float64
+		want   bool
+	}{
+		{300, 450, false}, // in view from the right end (from 294.6)
+		{200, 330, true},  // in view only from the left end (to 337.4)
+		{280, 330, true},  // from the left only: it begins left of 294.6
+		{200, 350, false}, // from neither end: the right end, and the page's script
+		{300, 330, false}, // from both: the right end
+	} {
+		if got := mapOpensLeft(c.x0, c.x1, w); got != c.want {
+			t.Errorf("mapOpensLeft(%g, %g) = %v, want %v", c.x0, c.x1, got, c.want)
 		}
 	}
 }

@@ -14,6 +14,13 @@
 //    own box (the stylesheet does that); such a box becomes reachable by
 //    keyboard and is named for screen readers after its caption or the
 //    heading above it, so the scrolling is not for mouse users only.
+//    The weight map, which opens at its right end on a phone, is marked
+//    on its figure with the edges beyond which more of it lies
+//    (data-more-left, data-more-right), or as fitting (data-fits); the
+//    stylesheet draws a shadow at each such edge and hides the hint
+//    above a map that fits. A map with a cut-off that leaves experts out
+//    (data-show-cut) is moved once, so that its label is in view and as
+//    much of the map right of it (the experts who earn weight) as fits.
 (function () {
   "use strict";
   Array.prototype.forEach.call(document.querySelectorAll("textarea[data-max-chars]"), function (ta) {
@@ -70,7 +77,44 @@
       }
     });
   }
-  markScrollers();
-  window.addEventListener("resize", markScrollers);
-  document.addEventListener("parley:live", markScrollers);
+  // The edges are read from where the picture stands against its box, so
+  // a box laid out right to left reads as one laid out left to right.
+  function markEdges(box) {
+    var figure = box.closest(".chart-weight-map"), inner = box.firstElementChild;
+    if (!figure || !inner) { return; }
+    var b = box.getBoundingClientRect(), c = inner.getBoundingClientRect();
+    var left = c.left < b.left - 1, right = c.right > b.right + 1;
+    figure.toggleAttribute("data-more-left", left);
+    figure.toggleAttribute("data-more-right", right);
+    figure.toggleAttribute("data-fits", !left && !right);
+  }
+  // showCut brings the cut-off's label into view once, clear of the
+  // shadow at the edge (1.1rem in chart.css), with as much of the map
+  // right of it as the box holds.
+  function showCut(box) {
+    var label = box.querySelector(".map-cut-label");
+    if (!box.hasAttribute("data-show-cut") || box.hasAttribute("data-placed") || !label || box.scrollWidth <= box.clientWidth + 1) { return; }
+    box.setAttribute("data-placed", "");
+    var edge = 1.1 * parseFloat(getComputedStyle(document.documentElement).fontSize);
+    var b = box.getBoundingClientRect(), l = label.getBoundingClientRect();
+    // Scrolled as far right as keeps the label whole, up to the map's
+    // right end: the experts who earn weight stand right of the cut-off.
+    var d = Math.min(l.left - (b.left + edge), box.firstElementChild.getBoundingClientRect().right - b.right);
+    if (Math.abs(d) > 0.5) { box.scrollLeft += d; }
+  }
+  function markAll() {
+    markScrollers();
+    Array.prototype.forEach.call(document.querySelectorAll(".map-scroll"), function (box) {
+      showCut(box);
+      markEdges(box);
+    });
+  }
+  markAll();
+  window.addEventListener("resize", markAll);
+  document.addEventListener("parley:live", markAll);
+  // Scroll events do not bubble; caught on their way down, one listener
+  // serves every map, also those a live update puts in.
+  document.addEventListener("scroll", function (e) {
+    if (e.target.classList && e.target.classList.contains("map-scroll")) { markEdges(e.target); }
+  }, { capture: true, passive: true });
 })();
