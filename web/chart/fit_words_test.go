@@ -156,17 +156,20 @@ func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
 // "chance below", their table is captioned in the fit's words, and each
 // other expert's line is said as running from their curve's 5% point to
 // its 95% point with a dot at its middle, where it said "from their 5th
-// to their 95th percentile". The facilitator's spread keeps the
-// statistician's words.
+// to their 95th percentile". The strip's title says the same, where it
+// read "The other 20 experts' 90% intervals". The facilitator's spread
+// keeps the statistician's words.
 func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
 	for _, c := range []struct {
-		forExpert             bool
-		upper, caption, lines string
+		forExpert                    bool
+		upper, caption, lines, title string
 	}{
 		{true, "how likely", "Each curve's 5%, middle (median) and 95% points",
-			"One line per other expert, from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top."},
+			"One line per other expert, from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top.",
+			"The other 20 experts' curves from the 5% point to the 95% point, for Response rate"},
 		{false, "density", "Percentiles of each curve",
-			"One line per other expert, from their 5th to their 95th percentile, with a dot at their median, sorted by median."},
+			"One line per other expert, from their 5th to their 95th percentile, with a dot at their median, sorted by median.",
+			"The other 20 experts' 90% intervals for Response rate"},
 	} {
 		v, _ := spreadInputs(20)
 		v.ForExpert = c.forExpert
@@ -187,6 +190,23 @@ func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
 		}
 		if m := newSpreadModel(v); !strings.HasPrefix(m.Desc, c.lines) {
 			t.Errorf("for the expert %v: the strip's caption reads\n%s\nwant it to start %q", c.forExpert, m.Desc, c.lines)
+		}
+		// The strip's own title, as a screen reader names the picture.
+		var titles []string
+		for _, n := range find(ns, "title", "") {
+			if strings.HasSuffix(n.Attr["id"], "-strip-title") {
+				titles = append(titles, n.Text)
+			}
+		}
+		if len(titles) != 1 || titles[0] != c.title {
+			t.Errorf("for the expert %v: the strip is titled %q, want %q", c.forExpert, titles, c.title)
+		}
+		if c.forExpert {
+			for _, n := range find(ns, "title", "") {
+				if strings.Contains(n.Text, "interval") {
+					t.Errorf("the expert's spread has a title of intervals: %q", n.Text)
+				}
+			}
 		}
 	}
 }

@@ -191,6 +191,14 @@ func newSpreadModel(v SpreadView) spreadModel {
 	m.Title = fmt.Sprintf("The %s%d %s 90%% intervals for %s", other, len(iv), what, axisTitle(v.Quantity, v.Units))
 	each := "from their 5th to their 95th percentile, with a dot at their median, sorted by median"
 	if v.ForExpert {
+		// The title in the words of the caption under it and of the
+		// expert's own fit: the curve's 5% and 95% points, not "90%
+		// intervals".
+		curves := "curves"
+		if len(iv) == 1 {
+			curves = "curve"
+		}
+		m.Title = fmt.Sprintf("The %s%d %s %s from the 5%% point to the 95%% point, for %s", other, len(iv), what, curves, axisTitle(v.Quantity, v.Units))
 		each = "from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top"
 	}
 	m.Desc = fmt.Sprintf("%s, %s. "+
