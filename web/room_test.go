@@ -130,7 +130,9 @@ func TestRoomViewShowsTheFeedbackAnonymously(t *testing.T) {
 	}
 }
 
-var percentileRow = regexp.MustCompile(`<tr[^>]*><th scope="row"[^>]*>(Expert [A-Z]+|You)\s*<br><span class="chart-params">[^<]*</span></th><td[^>]*>.*?</td><td[^>]*>[^<]*</td><td[^>]*>([^<]*)</td>`)
+// percentileRow is a row of a panel's table of curves; the room's names
+// each curve's Beta under its label, the expert's page does not.
+var percentileRow = regexp.MustCompile(`<tr[^>]*><th scope="row"[^>]*>(Expert [A-Z]+|You)\s*(?:<br><span class="chart-params">[^<]*</span>)?</th><td[^>]*>.*?</td><td[^>]*>[^<]*</td><td[^>]*>([^<]*)</td>`)
 
 // labelMedians maps each labelled curve to its median in the picture's
 // percentile table.

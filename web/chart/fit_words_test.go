@@ -130,7 +130,9 @@ func TestExpertsPanelSpeaksAsTheirFit(t *testing.T) {
 // The table under the panel an expert sees names what it holds in the
 // words of their fit's own table ("The curve's 5%, middle (median) and
 // 95% points"), where it read "Percentiles of each curve"; the
-// facilitator's panels keep the statistician's caption.
+// facilitator's panels keep the statistician's caption. Nor does the
+// expert's table write each curve's Beta(α, β) under its name, as the
+// facilitator's does.
 func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
 	curves := []Curve{
 		{Label: "You", Role: RoleExpert, Dist: sbeta(2, 8, 0, 1)},
@@ -148,6 +150,21 @@ func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
 		if got := find(ns, "caption", ""); len(got) != 1 || got[0].Text != c.want {
 			t.Errorf("for the expert %v: the table's caption is %v, want %q", c.forExpert, got, c.want)
 		}
+		var params []string
+		for _, n := range find(ns, "span", "chart-params") {
+			params = append(params, n.Text)
+		}
+		if want := []string{"Beta(2, 8)", "Beta(3, 9)"}; c.forExpert && len(params) > 0 {
+			t.Errorf("the expert's table names the curves' Betas %q", params)
+		} else if !c.forExpert && strings.Join(params, "|") != strings.Join(want, "|") {
+			t.Errorf("the facilitator's table names the curves' Betas %q, want %q", params, want)
+		}
+	}
+	// Nor does a large panel's table of its curves.
+	v, _ := spreadInputs(20)
+	v.ForExpert = true
+	if params := find(parse(t, renderLayout(t, Spread(v), "wide")), "span", "chart-params"); len(params) > 0 {
+		t.Errorf("the expert's spread names a curve's Beta: %q", params[0].Text)
 	}
 }
 

@@ -225,6 +225,14 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	g := m.Drawings[0].Twin
 	m.Legend = m.Drawings[0].Legend
+	if v.ForExpert {
+		// The table names each curve by its points; its Beta(α, β) is the
+		// facilitator's, whose pages keep it.
+		m.Legend = append([]legendGeom(nil), m.Legend...)
+		for i := range m.Legend {
+			m.Legend[i].Params = ""
+		}
+	}
 	var words []string
 	for i, c := range curves {
 		lg := m.Legend[i]
