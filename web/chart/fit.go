@@ -90,7 +90,14 @@ func (v FitView) thinks() string {
 // expert in the subject rather than in statistics: the upper plot shows
 // how likely each value is, and a curve rises above its top only at a
 // bound, where the expert's answers put the most likely values.
-var fitWords = twinWords{Upper: "how likely", Lower: "chance below", Cut: func(top, _ string) string {
+var fitWords = twinWords{Upper: "how likely", Lower: "chance below", Unnumbered: true, Cut: func(_, _ string) string {
+	return "The upper plot stops below the curve's peak near a bound."
+}}
+
+// fitWordsNumbered are fitWords with the upper plot's numbers, for the
+// facilitator who reads an expert's picture on the entry page
+// (FitView.Whose).
+var fitWordsNumbered = twinWords{Upper: fitWords.Upper, Lower: fitWords.Lower, Cut: func(top, _ string) string {
 	return "The upper plot stops at " + top + ", below the curve's peak near a bound."
 }}
 
@@ -190,8 +197,12 @@ func newFitModel(v FitView) fitModel {
 	// The percentiles are one range, written to figures that keep them
 	// apart, in the caption, the table and the labels alike.
 	copy(m.Pcts[:], FormatRangeWithin(v.Percentiles[:], v.Lower, v.Upper, v.Percent))
+	words := fitWords
+	if v.Whose != "" {
+		words = fitWordsNumbered
+	}
 	for i, lay := range layouts {
-		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, fitWords, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
+		d := fitDrawing{ID: m.ID, Twin: newTwinIn(lay, words, v.Quantity, v.Units, v.Lower, v.Upper, []Curve{c}, xs, true, v.Percent)}
 		if i > 0 {
 			d.ID += "-" + lay.Name
 		}

@@ -82,8 +82,75 @@ func TestFitSpeaksToTheExpert(t *testing.T) {
 	// so in the picture's words.
 	j := newFitModel(fitViewOf(sbeta(0.5, 40, 0, 1), Point{0.001, 0.5}))
 	plain("a J-shaped fit's caption", j.Desc, j.Params)
-	if !regexp.MustCompile(`The upper plot stops at \d+, below the curve's peak near a bound\.`).MatchString(j.Desc) {
+	if !strings.Contains(j.Desc, "The upper plot stops below the curve's peak near a bound.") {
 		t.Errorf("a J-shaped fit's caption does not say the curve is cut: %s", j.Desc)
+	}
+}
+
+// howLikelyLabels are the numbers written on the upper plots' axes of the
+// SVG fragment html, and how many gridlines those axes draw.
+func howLikelyLabels(t *testing.T, html string) (labels []string, grid int) {
+	t.Helper()
+	ns := parse(t, html)
+	for _, n := range find(ns, "text", "tick-y") {
+		// The chance axis's labels are percentages.
+		if !strings.HasSuffix(n.Text, "%") {
+			labels = append(labels, n.Text)
+		}
+	}
+	for _, n := range find(ns, "line", "grid-y") {
+		if !strings.HasSuffix(n.Attr["data-value"], "%") {
+			grid++
+		}
+	}
+	return labels, grid
+}
+
+// The upper plot of an expert's own fit, and of the other experts' curves
+// on their page, is titled "how likely" and draws its gridlines without
+// numbers: its numbers (0, 10, 20, 30) were the height of a density,
+// which means nothing to an expert; higher is more likely, as the title
+// and the caption say. A curve cut at the top is said without the number
+// it is cut at. The facilitator's pictures keep the numbers, the
+// expert's fit on the entry page too.
+func TestExpertsHowLikelyAxisHasNoNumbers(t *testing.T) {
+	jShaped := fitViewOf(sbeta(0.5, 40, 0, 1), Point{0.001, 0.5})
+	named := jShaped
+	named.Whose = "Priya Raman"
+	curves := []Curve{
+		{Label: "You", Role: RoleExpert, Dist: sbeta(0.6, 8, 0, 1)},
+		{Label: "Expert B", Role: RoleExpert, Dist: sbeta(0.7, 9, 0, 1)},
+	}
+	spread, _ := spreadInputs(20)
+	spread.ForExpert = true
+	numberedCut := regexp.MustCompile(`upper plot stops at \d|cut at \d`)
+	for _, c := range []struct {
+		name     string
+		html     string
+		desc     string
+		numbered bool
+	}{
+		{"the expert's fit", renderLayout(t, Fit(jShaped), "wide") + renderLayout(t, Fit(jShaped), "compact"), newFitModel(jShaped).Desc, false},
+		{"the expert's fit on the entry page", renderLayout(t, Fit(named), "wide"), newFitModel(named).Desc, true},
+		{"the other experts on the expert's page", renderLayout(t, Panel(PanelView{ID: "p", Lower: 0, Upper: 1, Curves: curves, ForExpert: true}), "compact"),
+			newPanelModel(PanelView{Lower: 0, Upper: 1, Curves: curves, ForExpert: true}).Desc, false},
+		{"a large panel on the expert's page", renderLayout(t, Spread(spread), "wide"), "", false},
+		{"the facilitator's panel", renderLayout(t, Panel(PanelView{ID: "p", Lower: 0, Upper: 1, Curves: curves}), "wide"),
+			newPanelModel(PanelView{Lower: 0, Upper: 1, Curves: curves}).Desc, true},
+	} {
+		labels, grid := howLikelyLabels(t, c.html)
+		if grid < 3 {
+			t.Errorf("%s: the upper plot draws %d gridlines", c.name, grid)
+		}
+		if c.numbered && len(labels) < 2 {
+			t.Errorf("%s: the upper plot's axis is numbered %q, want its numbers", c.name, labels)
+		}
+		if !c.numbered && len(labels) > 0 {
+			t.Errorf("%s: the upper plot's axis is numbered %q", c.name, labels)
+		}
+		if cut := numberedCut.MatchString(c.desc); cut != c.numbered && c.desc != "" {
+			t.Errorf("%s: the caption names the number the plot is cut at: %v, want %v:\n%s", c.name, cut, c.numbered, c.desc)
+		}
 	}
 }
 
@@ -102,7 +169,7 @@ func TestExpertsPanelSpeaksAsTheirFit(t *testing.T) {
 		cut           string
 	}{
 		{true, "how likely", "How likely each value of Response rate is (upper plot, higher where more likely) and the chance of a value below each point (lower plot), between the bounds 0 and 1.",
-			"The upper plot stops at 7, below the peak of You and Expert B."},
+			"The upper plot stops below the peak of You and Expert B."},
 		{false, "density", "Density (upper plot) and chance below each value (lower plot) of Response rate, between the bounds 0 and 1.",
 			"The density rises above the top of the chart (cut at 7) for You and Expert B."},
 	} {

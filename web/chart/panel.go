@@ -43,8 +43,8 @@ type PanelView struct {
 
 // expertPanelWords are fitWords for a picture of several curves, whose
 // note names the curves cut at the top.
-var expertPanelWords = twinWords{Upper: fitWords.Upper, Lower: fitWords.Lower, Cut: func(top, names string) string {
-	return fmt.Sprintf("The upper plot stops at %s, below the peak of %s.", top, names)
+var expertPanelWords = twinWords{Upper: fitWords.Upper, Lower: fitWords.Lower, Unnumbered: true, Cut: func(_, names string) string {
+	return fmt.Sprintf("The upper plot stops below the peak of %s.", names)
 }}
 
 // words are the view's twinWords.

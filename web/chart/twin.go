@@ -164,6 +164,7 @@ type frameKey struct {
 	lowerTitle      string
 	cut             string // the note on curves cut at the top, "" when none is
 	percent         bool   // the x axis's numbers as percentages
+	unnumbered      bool   // the upper plot's axis without its numbers (twinWords)
 }
 
 // axisTitle is "quantity (units)" or just the quantity.
@@ -186,6 +187,12 @@ type twinWords struct {
 	// Cut writes the note on curves cut at top (written as a number):
 	// names lists them.
 	Cut func(top, names string) string
+	// Unnumbered leaves the numbers off the upper plot's axis, keeping
+	// its gridlines: for an expert, to whom the height of a density (0,
+	// 10, 20, 30) means nothing; what the plot says is that higher is more
+	// likely, which its title and caption say. Cut then names no number
+	// either.
+	Unnumbered bool
 }
 
 // densityWords are the statistician's words, for the facilitator's
@@ -275,7 +282,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 	// phone) take their room from the plots, as the study's picture does
 	// for its labels; the picture keeps its width. The room depends on the
 	// layout and top alone, which key the remembered frames and paths.
-	if need := yTitleRoom - min(yLabelsLeft(dens, ticks(0, top, densityTicksN), w.Upper, lay.Name),
+	if need := yTitleRoom - min(yLabelsLeft(dens, densityTicks(top, w.Unnumbered), w.Upper, lay.Name),
 		yLabelsLeft(cumul, chanceTicks(), w.Lower, lay.Name)); need > 0 {
 		need = math.Ceil(need)
 		lay.Left += need
@@ -353,7 +360,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 	}
 
 	key := frameKey{layout: lay.Name, tickPx: lay.tickPx(), quantity: quantity, units: units, lower: lower, upper: upper,
-		x0: x0, x1: x1, top: top, upperTitle: w.Upper, lowerTitle: w.Lower, percent: percent}
+		x0: x0, x1: x1, top: top, upperTitle: w.Upper, lowerTitle: w.Lower, percent: percent, unnumbered: w.Unnumbered}
 	if len(g.ClippedBy) > 0 {
 		key.cut = w.Cut(formatSig(top, 3), proseList(g.ClippedBy))
 	}
@@ -432,7 +439,7 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 		percent = func(t tick) string { return FormatPercent(t.Value) }
 	}
 	g.XTicks = xTicks(x0, x1, lay.XTicks, dens.px, percent, lay.tickPx(), lay.width())
-	dt, ct := ticks(0, top, densityTicksN), chanceTicks()
+	dt, ct := densityTicks(top, k.unnumbered), chanceTicks()
 	// One x for both upright titles, clear of the labels level with
 	// either (newTwinIn leaves the room).
 	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, k.upperTitle, lay.Name)-yTitleGap-yDescent*yTitlePx,
@@ -625,6 +632,18 @@ func yAxes(f frame, ts []tick, title, class string, tx float64) axesGeom {
 	a.YTitleX, a.YTitleY = coord(tx), coord(ty)
 	a.YTitleRotation = "rotate(-90 " + coord(tx) + " " + coord(ty) + ")"
 	return a
+}
+
+// densityTicks are the density axis's ticks up to top, without their
+// labels when unnumbered (twinWords.Unnumbered): the gridlines stay.
+func densityTicks(top float64, unnumbered bool) []tick {
+	ts := ticks(0, top, densityTicksN)
+	if unnumbered {
+		for i := range ts {
+			ts[i].Label = ""
+		}
+	}
+	return ts
 }
 
 // chanceTicks are the chance axis's ticks, every 25%.
