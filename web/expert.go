@@ -487,15 +487,56 @@ func (v expertQuestionView) saving() saving {
 
 // asksForSave says whether the form shows the parts only a save uses:
 // the reasoning, and on the facilitator's entry page how the judgement
-// reached them. For a revoked expert and in an archived workshop nothing
-// can be entered, so the page asks for neither (the expert's own page
-// asked an archived workshop's expert for reasoning that "later in the
-// workshop the other experts may see"); the values and Show the fit
-// stay, as the preview saves nothing. In a closed round the reasoning
-// stays, to be saved with the values when the next round opens.
+// reached them. For a revoked expert, in an archived workshop and in a
+// closed round nothing can be entered, so the page asks for neither (the
+// expert's own page asked an archived workshop's expert for reasoning
+// that "later in the workshop the other experts may see"); the values and
+// Show the fit stay, as the preview saves nothing. A closed round's box
+// was said to keep its text for the next round, but nothing kept it: the
+// preview does not read it, the save is refused, and the page opened
+// again when the round opens starts empty. Only a save refused because
+// the round closed keeps the box, holding the reasoning it sent, so that
+// nothing typed vanishes from the page.
 func (v expertQuestionView) asksForSave() bool {
-	s := v.saving()
-	return s != savingRevoked && s != savingFinished
+	switch v.saving() {
+	case savingRevoked, savingFinished:
+		return false
+	case savingClosed:
+		return v.Form.Reason != ""
+	}
+	return true
+}
+
+// closedWithAnswer says the expert's own page shows, in a closed round,
+// the answer they saved: not the values of a save just refused.
+func (v expertQuestionView) closedWithAnswer() bool {
+	return v.OnBehalf == nil && v.saving() == savingClosed && len(v.History) > 0 && v.Closed == ""
+}
+
+// closedRoundStatus says, on the expert's page of a question they have
+// answered, that the round is closed, what happens next and what the
+// page below holds: their answer as saved, whose round it is from, and
+// its curve. Changing the values only tries the fit.
+func (v expertQuestionView) closedRoundStatus() string {
+	// An answer the facilitator entered is said so in the note under
+	// this line (enteredNoteSentence).
+	return "Round " + strconv.Itoa(v.Round) + " is closed: nothing can be saved until the facilitator opens the next round, when you can revise your answer here. " +
+		"Below are your answer from round " + strconv.Itoa(v.History[0].Round) + " and its best-matching curve; changing the values only tries the fit, and nothing tried here is kept."
+}
+
+// enteredNoteSentence says that the expert's current answer was entered
+// by the facilitator, and whether and when they can revise it: "You can
+// revise it here" stood above a closed round's disabled save and an
+// archived workshop's.
+func (v expertQuestionView) enteredNoteSentence() string {
+	lead := "Your current answer " + v.EnteredNote + "."
+	switch v.saving() {
+	case savingOpen:
+		return lead + " You can revise it here if it is not what you meant."
+	case savingClosed:
+		return lead + " If it is not what you meant, you can revise it here when the facilitator opens the next round."
+	}
+	return lead
 }
 
 // onBehalfOf is the expert's name on the facilitator's entry page, ""

@@ -611,15 +611,16 @@ func TestArchivedFeedbackDoesNotInviteASave(t *testing.T) {
 
 // An archived workshop's question page asks for no reasoning: the box
 // said "Later in the workshop the other experts may see it" under "nothing
-// more can be saved". A closed round keeps it.
+// more can be saved". Nor does a closed round's, whose box kept nothing
+// (TestClosedRoundPageShowsTheAnswerAndAsksForNothingToSave).
 func TestArchivedWorkshopAsksForNoReasoning(t *testing.T) {
 	g := newExpertRig(t)
 	ctx := context.Background()
 	if err := g.db.SetRound(ctx, g.ws.ID, 1, false, ""); err != nil {
 		t.Fatal(err)
 	}
-	if _, page := g.get(g.qpath(0, g.q)); !strings.Contains(page, `id="f-reason"`) {
-		t.Errorf("a closed round's page asks for no reasoning:\n%s", page)
+	if _, page := g.get(g.qpath(0, g.q)); strings.Contains(page, `id="f-reason"`) {
+		t.Errorf("a closed round's page asks for reasoning")
 	}
 	if err := g.db.SetArchived(ctx, g.ws.ID, true, "finished (invented)"); err != nil {
 		t.Fatal(err)
