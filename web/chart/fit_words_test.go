@@ -241,19 +241,24 @@ func TestExpertsPanelTableSpeaksAsTheirFit(t *testing.T) {
 // other expert's line is said as running from their curve's 5% point to
 // its 95% point with a dot at its middle, where it said "from their 5th
 // to their 95th percentile". The strip's title says the same, where it
-// read "The other 20 experts' 90% intervals". The facilitator's spread
-// keeps the statistician's words.
+// read "The other 20 experts' 90% intervals", and the table of their
+// medians says, as the caption above it does, how many lie below each
+// value, where it named quartiles. The facilitator's spread keeps the
+// statistician's words.
 func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
 	for _, c := range []struct {
 		forExpert                    bool
 		upper, caption, lines, title string
+		medians                      string // the medians' table: its caption, headers and rows' names
 	}{
 		{true, "how likely", "Each curve's 5%, middle (median) and 95% points",
 			"One line per other expert, from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top.",
-			"The other 20 experts' curves from the 5% point to the 95% point, for Response rate"},
+			"The other 20 experts' curves from the 5% point to the 95% point, for Response rate",
+			"The middles (medians) of the other experts' curves|which|value|lowest|a quarter lie below|half lie below|three quarters lie below|highest"},
 		{false, "density", "Percentiles of each curve",
 			"One line per other expert, from their 5th to their 95th percentile, with a dot at their median, sorted by median.",
-			"The other 20 experts' 90% intervals for Response rate"},
+			"The other 20 experts' 90% intervals for Response rate",
+			"The other experts' medians|which|median|lowest|lower quartile|median|upper quartile|highest"},
 	} {
 		v, _ := spreadInputs(20)
 		v.ForExpert = c.forExpert
@@ -269,8 +274,17 @@ func TestExpertsSpreadSpeaksAsTheirFit(t *testing.T) {
 		for _, n := range find(ns, "caption", "") {
 			captions = append(captions, n.Text)
 		}
-		if len(captions) == 0 || captions[0] != c.caption {
-			t.Errorf("for the expert %v: the tables' captions are %q, want the curves' %q first", c.forExpert, captions, c.caption)
+		if len(captions) != 2 || captions[0] != c.caption {
+			t.Fatalf("for the expert %v: the tables' captions are %q, want the curves' %q first, then the medians'", c.forExpert, captions, c.caption)
+		}
+		// The medians' table is the last: its two headers and five rows.
+		medians := []string{captions[1]}
+		ths := find(ns, "th", "")
+		for _, th := range ths[max(0, len(ths)-7):] {
+			medians = append(medians, th.Text)
+		}
+		if got := strings.Join(medians, "|"); got != c.medians {
+			t.Errorf("for the expert %v: the medians' table reads %q, want %q", c.forExpert, got, c.medians)
 		}
 		if m := newSpreadModel(v); !strings.HasPrefix(m.Desc, c.lines) {
 			t.Errorf("for the expert %v: the strip's caption reads\n%s\nwant it to start %q", c.forExpert, m.Desc, c.lines)

@@ -89,14 +89,17 @@ type spreadJoin struct {
 }
 
 type spreadModel struct {
-	Panel     panelModel
-	ID        string
-	Strips    []spreadStrip // wide, then compact
-	Title     string
-	Desc      string
-	Caption   string // of the medians' table
-	Quartiles []spreadQuartile
-	Joined    []spreadJoin // the room's pictures (SpreadView.Room), wide then compact
+	Panel   panelModel
+	ID      string
+	Strips  []spreadStrip // wide, then compact
+	Title   string
+	Desc    string
+	Caption string // of the medians' table
+	// ValueHeader heads the medians' table's column of values: "median",
+	// or on an expert's page "value", as its rows say what they are.
+	ValueHeader string
+	Quartiles   []spreadQuartile
+	Joined      []spreadJoin // the room's pictures (SpreadView.Room), wide then compact
 }
 
 // Strip layout: each row is spreadRowH units high, so 200 experts make a
@@ -188,6 +191,7 @@ func newSpreadModel(v SpreadView) spreadModel {
 		other, line = "", "One line per expert"
 	}
 	m.Caption = "The " + other + "experts' medians"
+	m.ValueHeader = "median"
 	m.Title = fmt.Sprintf("The %s%d %s 90%% intervals for %s", other, len(iv), what, axisTitle(v.Quantity, v.Units))
 	each := "from their 5th to their 95th percentile, with a dot at their median, sorted by median"
 	if v.ForExpert {
@@ -200,6 +204,13 @@ func newSpreadModel(v SpreadView) spreadModel {
 		}
 		m.Title = fmt.Sprintf("The %s%d %s %s from the 5%% point to the 95%% point, for %s", other, len(iv), what, curves, axisTitle(v.Quantity, v.Units))
 		each = "from the 5% point to the 95% point of their curve, with a dot at its middle (the median), the lowest middle at the top"
+		// The medians' table as the caption above it says them: "half
+		// of them lie between", not quartiles.
+		m.Caption = "The middles (medians) of the " + other + "experts' curves"
+		m.ValueHeader = "value"
+		for i, name := range []string{"lowest", "a quarter lie below", "half lie below", "three quarters lie below", "highest"} {
+			m.Quartiles[i].Name = name
+		}
 	}
 	m.Desc = fmt.Sprintf("%s, %s. "+
 		"The %s%d %s medians run from %s to %s; half of them lie between %s and %s.",
