@@ -17,7 +17,9 @@ import (
 // refused, and the page opened again starts empty). The page now says
 // that nothing can be saved until the facilitator opens the next round,
 // that the answer below is the one saved and from which round, and that
-// changing the values only tries the fit; it asks for no reasoning.
+// changing the values only tries the fit (and, where the values were
+// tried without the script, not that they are the saved answer); it asks
+// for no reasoning.
 // Only a save refused because the round closed keeps the box, with the
 // reasoning it sent, so that nothing typed vanishes. The facilitator's
 // entry page of a closed round asks neither how the judgement reached
@@ -58,6 +60,12 @@ func TestClosedRoundPageShowsTheAnswerAndAsksForNothingToSave(t *testing.T) {
 	page = read(1)
 	if !strings.Contains(page, "You have not answered this question yet; you can when the facilitator opens the next round.") || strings.Contains(page, `id="f-reason"`) {
 		t.Error("Bruno's page in the closed round does not say he can answer in the next round, or asks for reasoning")
+	}
+
+	// Values tried without the script are not the saved answer.
+	if _, tried := g.post(g.qpath(0, g.q)+"/preview", quantiles("0.06", "0.21", "0.41")); strings.Contains(html.UnescapeString(tried), "Below are your answer") ||
+		!strings.Contains(tried, `value="0.21"`) {
+		t.Error("the page of values tried without the script says they are the saved answer")
 	}
 
 	// A save the closed round refused keeps what it sent on the page,

@@ -134,6 +134,9 @@ type expertQuestionView struct {
 	// Unanswered says the expert has saved no answer to the question
 	// (nor has the facilitator for them).
 	Unanswered bool
+	// Tried says the form holds values sent to Show the fit without the
+	// script, not the expert's saved answer.
+	Tried bool
 }
 
 // finalWithoutAnswer says the question's answers are final and the expert
@@ -508,9 +511,10 @@ func (v expertQuestionView) asksForSave() bool {
 }
 
 // closedWithAnswer says the expert's own page shows, in a closed round,
-// the answer they saved: not the values of a save just refused.
+// the answer they saved: not the values of a save just refused, nor
+// those tried without the script.
 func (v expertQuestionView) closedWithAnswer() bool {
-	return v.OnBehalf == nil && v.saving() == savingClosed && len(v.History) > 0 && v.Closed == ""
+	return v.OnBehalf == nil && v.saving() == savingClosed && len(v.History) > 0 && v.Closed == "" && !v.Tried
 }
 
 // closedRoundStatus says, on the expert's page of a question they have
@@ -851,6 +855,7 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 	v := s.questionView(r, sc, formValues(f), f.Value("reason"))
 	applyErrors(&v.Form, f)
 	v.Preview = p
+	v.Tried = true
 	s.renderQuestion(w, r, status, sc, v)
 }
 
