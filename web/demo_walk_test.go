@@ -135,11 +135,12 @@ func TestWordList(t *testing.T) {
 // TestSpikeNoteListsTheCurvesAsProse: on the demo's question 1, Ole
 // Brandt's spike and the pool rise above the density axis; the note under
 // the picture said "for Ole Brandt, Equal-weight pool", which reads as
-// one curve's name.
+// one curve's name, then "for Ole Brandt and Equal-weight pool", as if the
+// pool were a person.
 func TestSpikeNoteListsTheCurvesAsProse(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	_, body := h.get(workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10))
-	if want := "(cut at 80) for Ole Brandt and Equal-weight pool."; !strings.Contains(body, want) {
+	if want := "(cut at 80) for Ole Brandt and the equal-weight pool."; !strings.Contains(body, want) {
 		t.Errorf("the panel's picture lacks %q", want)
 	}
 }

@@ -1269,7 +1269,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	v.Reasons = fb.reasons(sc.expert.ID)
 	if len(others) > overlayLimit {
 		if fb.poolErr == nil {
-			curves = append(curves, expertsPoolCurve(fb.pool))
+			curves = append(curves, poolCurve(fb.pool))
 		}
 		dists := make([]elicit.ScaledBeta, len(others))
 		for i, m := range others {
@@ -1282,7 +1282,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
 	}
 	if fb.poolErr == nil {
-		curves = append(curves, expertsPoolCurve(fb.pool))
+		curves = append(curves, poolCurve(fb.pool))
 	}
 	v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Percent: percent, ForExpert: true}
 }
@@ -1529,15 +1529,6 @@ const overlayLimit = 12
 // poolCurve is the equal-weight pool as a curve to draw.
 func poolCurve(pool elicit.Pool) chart.Curve {
 	return chart.Curve{Label: workshop.WeightsEqual.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: pool}}
-}
-
-// expertsPoolCurve is poolCurve on an expert's page, named in the notes
-// under the picture as in the sentence above it: "below the peak of your
-// curve and the equal-weight pool", not "… and Equal-weight pool".
-func expertsPoolCurve(pool elicit.Pool) chart.Curve {
-	c := poolCurve(pool)
-	c.Prose = "the equal-weight pool"
-	return c
 }
 
 // nextUnanswered finds, after a save, the first question after this one

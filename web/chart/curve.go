@@ -4,6 +4,8 @@ import (
 	"errors"
 	"math"
 	"sort"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -23,6 +25,22 @@ type Curve struct {
 	// only: a smooth Beta's percentiles and window are solved for from
 	// them, so wrong ones cost time, never a wrong picture.
 	Percentiles *[3]float64
+}
+
+// proseName is how a sentence under the picture names the curve: Prose
+// when given; an expert by their label; a pool, a prior or another
+// curve of the panel's by its label as a common noun ("the equal-weight
+// pool", "the agreed prior"), which mid-sentence read as a name ("for
+// Ole Brandt and Equal-weight pool").
+func (c Curve) proseName() string {
+	switch {
+	case c.Prose != "":
+		return c.Prose
+	case c.Role == RoleExpert || c.Label == "":
+		return c.Label
+	}
+	r, n := utf8.DecodeRuneInString(c.Label)
+	return "the " + string(unicode.ToLower(r)) + c.Label[n:]
 }
 
 // Distribution is what a picture needs of a distribution on a question's

@@ -138,3 +138,26 @@ func TestThePolylineReachesAModeBetweenGridPoints(t *testing.T) {
 		}
 	}
 }
+
+// TestCutNoteNamesThePanelsCurvesInProse: the note under a picture whose
+// curves are cut at the top names a pool as a sentence does, "for Expert
+// A and the equal-weight pool", where it read "for Expert A and
+// Equal-weight pool", as if the pool were a person. The panel of
+// TestOneSpikeDoesNotFlattenThePanel, whose pool is cut with the spike
+// (its top is measured on its own window, densityCap).
+func TestCutNoteNamesThePanelsCurvesInProse(t *testing.T) {
+	ds := []elicit.ScaledBeta{sbeta(300, 10000, 0, 1), sbeta(4, 60, 0, 1), sbeta(5, 70, 0, 1), sbeta(3, 50, 0, 1)}
+	p, err := elicit.LinearPool(ds, []float64{1, 1, 1, 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	curves := []Curve{{Label: "Expert A", Role: RoleExpert, Dist: ds[0]}, {Label: "Expert B", Role: RoleExpert, Dist: ds[1]},
+		{Label: "Expert C", Role: RoleExpert, Dist: ds[2]}, {Label: "Expert D", Role: RoleExpert, Dist: ds[3]},
+		{Label: "Equal-weight pool", Role: RolePool, Dist: Pool{Pool: p}}}
+	for _, lay := range layouts {
+		g := newTwin(lay, "share", "", 0, 1, curves, nil, false)
+		if notes := strings.Join(g.Notes, " "); !strings.Contains(notes, "for Expert A and the equal-weight pool.") {
+			t.Errorf("%s: notes %q", lay.Name, notes)
+		}
+	}
+}

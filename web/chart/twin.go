@@ -351,11 +351,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 		g.Lines = append(g.Lines, l)
 		g.percentiles = append(g.percentiles, sp[i].percentile)
 		if p.clipped {
-			name := c.Label
-			if c.Prose != "" {
-				name = c.Prose
-			}
-			g.ClippedBy = append(g.ClippedBy, name)
+			g.ClippedBy = append(g.ClippedBy, c.proseName())
 		}
 	}
 
