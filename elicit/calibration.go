@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"slices"
 	"sort"
 	"strconv"
 
@@ -480,7 +481,14 @@ func sameFloats(a, b []float64) bool {
 	return true
 }
 
-// binProbs returns the inter-quantile bin probabilities p₁, p₂−p₁, …, 1−pₙ.
+// binProbs returns the inter-quantile bin probabilities p₁, p₂−p₁, …, 1−pₙ,
+// with bins of equal mass equal to the last bit (sameMasses). In doubles
+// 0.95 − 0.5 is 0.44999999999999996 and 1 − 0.95 is 0.050000000000000044,
+// so the two middle bins of 5/50/95, of equal mass by definition, differed
+// in the last bit, and two experts whose counts mirror each other
+// ([1, 5, 4, 0] and [0, 4, 5, 1]) got calibration scores 6e-16 apart: the
+// optimised cut-off then kept one and left out the other (found in
+// review).
 func binProbs(probs []float64) []float64 {
 	p := make([]float64, len(probs)+1)
 	prev := 0.0
@@ -489,7 +497,27 @@ func binProbs(probs []float64) []float64 {
 		prev = pr
 	}
 	p[len(probs)] = 1 - prev
+	sameMasses(p)
 	return p
+}
+
+// sameMassTol is how far apart, relative, two bins' masses may be in
+// doubles and still be the same mass: the rounding of a difference of
+// two probabilities is a few units in the last place (about 1e-16
+// relative); masses that differ by design differ by far more.
+const sameMassTol = 1e-12
+
+// sameMasses gives bins whose masses agree to sameMassTol one mass, the
+// smallest of them, so that counts moved between them leave the
+// calibration score as it was to the last bit.
+func sameMasses(p []float64) {
+	for i := range p {
+		for j := range p {
+			if p[j] < p[i] && p[i]-p[j] <= sameMassTol*p[i] {
+				p[i] = p[j]
+			}
+		}
+	}
 }
 
 // binOf is the inter-quantile bin holding x: the number of quantiles
@@ -768,12 +796,22 @@ func CalibrationScore(counts []int, probs []float64) (float64, error) {
 // RelativeInformation is I(s, p) = Σⱼ sⱼ ln(sⱼ/pⱼ) with 0·ln 0 = 0
 // (Kullback & Leibler 1951, Ann. Math. Statist. 22: 79–86), for
 // unvalidated s and p of the same length with pⱼ > 0.
+//
+// The terms are added smallest first, whatever the bins' order, so that
+// counts moved between bins of equal mass give the same sum to the last
+// bit, and equal calibration scores compare equal at the cut-off.
 func relativeInformation(s, p []float64) float64 {
-	sum := 0.0
+	var buf [16]float64
+	terms := buf[:0]
 	for j := range s {
 		if s[j] > 0 {
-			sum += s[j] * math.Log(s[j]/p[j])
+			terms = append(terms, s[j]*math.Log(s[j]/p[j]))
 		}
+	}
+	slices.Sort(terms)
+	sum := 0.0
+	for _, t := range terms {
+		sum += t
 	}
 	return sum
 }

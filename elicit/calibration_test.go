@@ -8,6 +8,7 @@ import (
 	"math/rand/v2"
 	"os"
 	"reflect"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -1021,5 +1022,98 @@ func TestOptimisedCutOffScoresEveryPoolOnTheSameQuestions(t *testing.T) {
 	if only.Pooled.N != 4 || !(only.Pooled.Combined > s.Pooled.Combined) {
 		t.Errorf("cut-off at Esi's score: pool on %d questions, C·I %v (optimised %v); want 4 and above",
 			only.Pooled.N, only.Pooled.Combined, s.Pooled.Combined)
+	}
+}
+
+// TestMirroredCountsScoreAlike: bins of equal mass are alike, so counts
+// mirrored about the median (5/50/95: the two outer bins hold 0.05 each,
+// the two inner 0.45) have the same calibration score, to the last bit,
+// by the definition C = 1 − F_χ²(2·N·I(s, p); n) (Cooke 1991, ch. 12).
+// In doubles the bin masses were 0.45 and 0.44999999999999996, and the
+// scores 6e-16 apart (found in review).
+func TestMirroredCountsScoreAlike(t *testing.T) {
+	for _, probs := range [][]float64{{0.05, 0.5, 0.95}, {0.1, 0.5, 0.9}, {0.25, 0.5, 0.75}, {0.05, 0.25, 0.5, 0.75, 0.95}, {1.0 / 3, 2.0 / 3}} {
+		n := len(probs) + 1
+		counts := make([]int, n)
+		var walk func(j, left int)
+		checked := 0
+		walk = func(j, left int) {
+			if j == n-1 {
+				counts[j] = left
+				mirror := slices.Clone(counts)
+				slices.Reverse(mirror)
+				a, errA := CalibrationScore(counts, probs)
+				b, errB := CalibrationScore(mirror, probs)
+				if errA != nil || errB != nil {
+					t.Fatal(errA, errB)
+				}
+				if a != b {
+					t.Errorf("probs %v: C%v = %.17g, C%v = %.17g", probs, counts, a, mirror, b)
+				}
+				checked++
+				return
+			}
+			for c := 0; c <= left; c++ {
+				counts[j] = c
+				walk(j+1, left-c)
+			}
+		}
+		for total := 1; total <= 10; total++ {
+			walk(0, total)
+		}
+		if checked < 100 {
+			t.Errorf("probs %v: %d count vectors checked", probs, checked)
+		}
+	}
+}
+
+// TestEqualScoresAreCutAlike: two experts with mirrored counts, and so
+// equal calibration scores, are kept or left out together. An invented
+// panel of three on three questions: Ada's counts are [1, 1, 0, 1] and
+// Bea's [1, 0, 1, 1]. The cut-off can keep all three or Cai alone; the
+// optimised one must give the weights of one of these, the better pool.
+// Before, a cut-off at Bea's score (6e-16 above Ada's) kept Bea and not
+// Ada, weights no cut-off can give.
+func TestEqualScoresAreCutAlike(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	mk := func(e, q string, x ...float64) SeedAssessment {
+		return SeedAssessment{Expert: e, Question: q, Probs: probs, Quantiles: x}
+	}
+	as := []SeedAssessment{
+		mk("Ada", "Q1", 11, 60, 110), mk("Ada", "Q2", 1, 60, 110), mk("Ada", "Q3", -90, -40, 9),
+		mk("Bea", "Q1", 10.5, 11, 11.5), mk("Bea", "Q2", 9, 9.5, 10.5), mk("Bea", "Q3", 8, 8.5, 9),
+		mk("Cai", "Q1", 9, 10.5, 12), mk("Cai", "Q2", 8, 9.5, 11), mk("Cai", "Q3", 7, 8.5, 9.5),
+	}
+	real := map[string]float64{"Q1": 10, "Q2": 10, "Q3": 10}
+	s, err := ClassicalModel(as, real, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ada, bea, cai := expertScore(t, s, "Ada"), expertScore(t, s, "Bea"), expertScore(t, s, "Cai")
+	if ada.Calibration != bea.Calibration {
+		t.Fatalf("Ada's score %.17g, Bea's %.17g: equal by definition", ada.Calibration, bea.Calibration)
+	}
+	if (ada.Weight == 0) != (bea.Weight == 0) {
+		t.Errorf("equal scores cut apart: Ada %v, Bea %v at α %v", ada.Weight, bea.Weight, s.Alpha)
+	}
+	// The two cut-offs the model can choose, and the better pool.
+	zero, top := 0.0, cai.Calibration
+	all, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &zero})
+	if err != nil {
+		t.Fatal(err)
+	}
+	alone, err := ClassicalModel(as, real, nil, ModelOptions{Alpha: &top})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := all
+	if alone.Pooled.Combined > all.Pooled.Combined {
+		want = alone
+	}
+	for _, e := range want.Experts {
+		if got := expertScore(t, s, e.Expert).Weight; math.Abs(got-e.Weight) > 1e-15 {
+			t.Errorf("%s: weight %v, the better cut-off's %v (all three: pool C·I %v; Cai alone: %v)",
+				e.Expert, got, e.Weight, all.Pooled.Combined, alone.Pooled.Combined)
+		}
 	}
 }

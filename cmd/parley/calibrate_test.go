@@ -432,7 +432,9 @@ func TestCalibrateTextFixedCutOffAsTyped(t *testing.T) {
 // questions on the log scale (inverter_seeds_log.csv), and with an expert
 // who skipped two questions (inverter_seeds_skipped.csv, where the cut-off
 // that keeps only her would score the pool on four of the six questions and
-// is passed over), with the cut-off optimised and fixed at 0.1.
+// is passed over), and with two experts whose counts mirror each other
+// (mirror_seeds.csv: equal calibration scores, kept together), with the
+// cut-off optimised and fixed at 0.1.
 func TestCalibrateAgainstSciPy(t *testing.T) {
 	f, err := os.Open("../../testdata/scipy/classical_reference.csv")
 	if err != nil {
@@ -451,8 +453,8 @@ func TestCalibrateAgainstSciPy(t *testing.T) {
 		k := run{row[0], row[1]}
 		want[k] = append(want[k], row[2:])
 	}
-	if len(want) != 8 {
-		t.Fatalf("%d runs in the reference, want 8", len(want))
+	if len(want) != 10 {
+		t.Fatalf("%d runs in the reference, want 10", len(want))
 	}
 	num := func(s string) float64 {
 		v, err := strconv.ParseFloat(s, 64)
@@ -535,8 +537,8 @@ func TestCalibrateLeaveOneOutAgainstSciPy(t *testing.T) {
 		}
 		want[k] = append(want[k], row[2:])
 	}
-	if len(want) != 8 {
-		t.Fatalf("%d runs in the reference, want 8", len(want))
+	if len(want) != 10 {
+		t.Fatalf("%d runs in the reference, want 10", len(want))
 	}
 	for _, k := range order {
 		args := []string{"calibrate", "--format", "json", "--leave-one-out", "--input", "../../" + k.file}

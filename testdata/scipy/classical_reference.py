@@ -19,6 +19,8 @@ The model follows Cooke (1991), Experts in Uncertainty, ch. 12:
   - weights are C * I * 1{C >= alpha}, normalised; the performance-weighted
     pool on a question mixes the experts' minimal-information distributions
     with those weights and is scored like an expert from its quantiles;
+  - the bin masses are the differences of the probabilities as decimals
+    (exact fractions of their shortest decimal), so equal bins are equal;
   - alpha, unless fixed, is the candidate among the experts' calibration
     scores that maximises the pool's C * I (ties to the smaller alpha),
     compared only among the candidates whose pool is scored on the most
@@ -43,6 +45,7 @@ Columns: file,alpha_mode,who,calibration,information,weight
 import csv
 import math
 import sys
+from fractions import Fraction
 
 import numpy as np
 import scipy
@@ -53,6 +56,7 @@ FILES = [
     "testdata/calibration/inverter_seeds_bounded.csv",
     "testdata/calibration/inverter_seeds_log.csv",
     "testdata/calibration/inverter_seeds_skipped.csv",
+    "testdata/calibration/mirror_seeds.csv",
 ]
 K = 0.1
 
@@ -82,7 +86,12 @@ def load(path):
 
 
 def model(probs, data, real, bounds, alpha=None):
-    p = np.diff([0.0] + probs + [1.0])
+    # Bin masses as the typed decimals' differences, exactly (0.95 - 0.5 is
+    # 0.45, not the double 0.44999999999999996), so that bins of equal mass
+    # are equal and mirrored counts score alike; math.fsum below sums
+    # exactly rounded, whatever the order.
+    edges = [Fraction(0)] + [Fraction(repr(v)) for v in probs] + [Fraction(1)]
+    p = np.array([float(b - a) for a, b in zip(edges, edges[1:])])
     experts = sorted({e for e, _ in data})
     qs = sorted(real)
     rng = {}
