@@ -440,6 +440,7 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`)))
 	check(carmen, "expert round 1 closed, Q1", qURL(0), []int64{390}, true)
 	check(fac, "room view, round 1 closed", g.wsURL()+"/q/"+strconv.FormatInt(g.qs[0].ID, 10)+"/room", []int64{390, 1366}, true)
+	check(fac, "room view's reasons display, round 1 closed", g.wsURL()+"/q/"+strconv.FormatInt(g.qs[0].ID, 10)+"/room?show=reasons", []int64{390, 1366}, true)
 	// The record fingerprint at round 1's close, on the log and the room view.
 	check(fac, "facilitator log, round 1 closed", facPages["log"], []int64{390, 1366}, true)
 	fac.viewport(1366, 900, false)

@@ -133,6 +133,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	fitsScreen(t, room, 1920, 1080)
 	notesReadable(t, room, "1920×1080", 17)
 	pictureFills(t, room, "1920×1080", 14, 17)
+	reasonsBeside(t, room, "1920×1080", priyasReason)
 	shots.take(room, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
 	// An older projector: 1366×768. The picture's notes (the axis zoomed
@@ -143,6 +144,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	fitsScreen(t, room, 1366, 768)
 	notesReadable(t, room, "1366×768", 16)
 	pictureFills(t, room, "1366×768", 14, 16)
+	reasonsBeside(t, room, "1366×768", priyasReason)
 	shots.take(room, "room-02b-question-1-1366x768")
 	// A 1280×720 projector, the smallest in common use: the wording takes
 	// three lines and the notes wrap, and the view still fits. The
@@ -154,6 +156,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	fitsScreen(t, room, 1280, 720)
 	notesReadable(t, room, "1280×720", 16)
 	pictureFills(t, room, "1280×720", 14, 15)
+	reasonsBeside(t, room, "1280×720", priyasReason)
 	shots.take(room, "room-02c-question-1-1280x720")
 	// The facilitator looking at the room view on a phone: the page flows
 	// in one column and scrolls, and no part is drawn over another (held

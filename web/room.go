@@ -1,11 +1,13 @@
 package web
 
 import (
+	"fmt"
 	"net/http"
 	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -47,6 +49,21 @@ type roomView struct {
 	// Fingerprint is the record's fingerprint after the round closed
 	// (fingerprint.Value.Short), while it is closed, for the room to note.
 	Fingerprint string
+	// The reasons (room_reasons.go): listed beside the picture when they
+	// fit there (Beside), or counted there with a link to the reasons
+	// display (ReasonsLink). On the display (ShowReasons) the room shows
+	// one page of them, Heading says which, and Back returns to the
+	// picture; Prev and Next are then the pages' neighbours, or the
+	// picture and the next question's room at the ends.
+	Beside      bool
+	ReasonsLink string
+	ShowReasons bool
+	Page        reasonsScreen
+	Heading     string
+	Back        string
+	PastEnd     string // a page past the last, said in words
+	// PrevWords and NextWords name Prev and Next.
+	PrevWords, NextWords string
 }
 
 // roomRound is the round whose close the room shows: while a round is
@@ -66,12 +83,18 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
+	show, page, msg := roomQuery(r)
+	if msg != "" {
+		http.Error(w, msg, http.StatusBadRequest)
+		return
+	}
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	v := roomView{Title: ws.Title, Question: q, Events: workshopPath(ws.ID) + "/events", Through: roomRound(ws)}
+	v := roomView{Title: ws.Title, Question: q, Events: workshopPath(ws.ID) + "/events", Through: roomRound(ws),
+		PrevWords: "← previous question", NextWords: "next question →"}
 	var shown []workshop.Question
 	for _, x := range qs {
 		if !x.Retired || x.ID == q.ID {
@@ -102,6 +125,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
+	layOutReasons(&v, roomPath(ws.ID, q.ID), show, page)
 	m := pageMeta{Title: "Room view · Q" + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
 		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
 	s.renderPage(w, r, http.StatusOK, m, roomPage(v))
@@ -211,6 +235,109 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	}
 	v.Reasons = fb.reasons(0)
 	return nil
+}
+
+// roomQuery reads the room view's address: ?show=reasons for the reasons
+// display, and &page=N (from 1) for its pages; anything else is refused
+// in words naming the field.
+func roomQuery(r *http.Request) (show bool, page int, msg string) {
+	q := r.URL.Query()
+	if name, n := repeatedField(q); name != "" {
+		return false, 0, fmt.Sprintf("The room view's address could not be read: %s: takes one value, got %d.", input.Clip(name, 40), n)
+	}
+	for name := range q {
+		if name != "show" && name != "page" {
+			return false, 0, "The room view's address could not be read: " + input.Clip(name, 40) + ": not a setting of the room view (it takes show=reasons and page)."
+		}
+	}
+	page = 1
+	if q.Has("show") && q.Get("show") != "reasons" {
+		return false, 0, "The room view's address could not be read: show: takes only \"reasons\" (the reasons display)."
+	}
+	show = q.Get("show") == "reasons"
+	if q.Has("page") {
+		if !show {
+			return false, 0, "The room view's address could not be read: page: pages only the reasons display (show=reasons)."
+		}
+		n, err := strconv.Atoi(q.Get("page"))
+		if err != nil || n < 1 {
+			return false, 0, "The room view's address could not be read: page: takes a whole number from 1."
+		}
+		page = n
+	}
+	return show, page, ""
+}
+
+// reasonsPath is the reasons display's page n of the room view at room.
+func reasonsPath(room string, n int) string {
+	p := room + "?show=reasons"
+	if n > 1 {
+		p += "&page=" + strconv.Itoa(n)
+	}
+	return p
+}
+
+// layOutReasons places v's reasons: beside the picture when they fit
+// there, else counted there with a link to the reasons display; on the
+// display (show), page's share of them.
+func layOutReasons(v *roomView, room string, show bool, page int) {
+	members := 0
+	if v.Medians != nil {
+		members = len(v.Medians.Medians)
+	}
+	wording := "Q" + strconv.Itoa(v.Question.Position) + ": " + v.Question.Wording
+	if !show {
+		v.Beside = reasonsBeside(v.Reasons, members, wording)
+		if !v.Beside {
+			v.ReasonsLink = reasonsPath(room, 1)
+		}
+		return
+	}
+	v.ShowReasons, v.Back = true, room
+	if v.Note != "" || len(v.Reasons) == 0 {
+		// Nothing to page: the note says why, or the heading says none.
+		v.Heading = "No reasons were given with these answers."
+		if v.Note != "" {
+			v.Heading = "Reasons"
+		}
+		v.Prev, v.PrevWords = room, "← back to the picture"
+		return
+	}
+	state := v.State
+	if v.Through > 0 && !v.Held {
+		state += " Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
+	}
+	state += " " + v.Progress
+	if v.Truth != "" {
+		state += " The true value is " + v.Truth + "."
+	}
+	fp := ""
+	if v.Fingerprint != "" {
+		n := strconv.Itoa(v.Through)
+		fp = "Record fingerprint after round " + n + " closed: " + v.Fingerprint + " Note it: a later copy of the record must show this same value for round " + n + "'s close."
+	}
+	pages := pagesOfReasons(v.Reasons, pageLines([]string{wording, state, fp}))
+	if page > len(pages) {
+		// A page that was there before reasons were withheld, or typed:
+		// said, not swapped for another, and the live page follows it.
+		v.Heading = "Reasons"
+		v.PastEnd = "The " + strconv.Itoa(len(v.Reasons)) + " " + plural(len(v.Reasons), "reason takes", "reasons take") + " " +
+			strconv.Itoa(len(pages)) + " " + plural(len(pages), "page", "pages") + "; there is no page " + strconv.Itoa(page) + "."
+		v.Prev, v.PrevWords = reasonsPath(room, len(pages)), "← the last page of reasons"
+		return
+	}
+	v.Page = pages[page-1]
+	v.Heading = reasonsRange(v.Page, len(v.Reasons))
+	if len(pages) > 1 {
+		v.Heading += " (page " + strconv.Itoa(page) + " of " + strconv.Itoa(len(pages)) + ")"
+	}
+	v.Prev, v.PrevWords = room, "← back to the picture"
+	if page > 1 {
+		v.Prev, v.PrevWords = reasonsPath(room, page-1), "← earlier reasons"
+	}
+	if page < len(pages) {
+		v.Next, v.NextWords = reasonsPath(room, page+1), "next reasons →"
+	}
 }
 
 // roomProgress says how many of the active experts have answered (or,

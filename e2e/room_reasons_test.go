@@ -1,0 +1,301 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"sort"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit/input"
+)
+
+// roomReasonsPanel is largePanelWith's 20 invented experts, each of whom
+// then gave a reason of their own length: some a line, some a few, some
+// a paragraph, one over two paragraphs, one as long as a reason may be. It returns the room view's
+// address and every expert's reason, as stored.
+func roomReasonsPanel(t *testing.T, s *site) (string, []string) {
+	t.Helper()
+	const n = 20
+	ws, q := largePanelWith(t, s, n, nil)
+	ctx := context.Background()
+	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+	if err != nil || len(latest) != n {
+		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+	}
+	var reasons []string
+	for i, rv := range latest {
+		var why string
+		switch i % 4 {
+		case 0:
+			why = fmt.Sprintf("Invented: at site %d the seals run hot in summer, and the returns of the older seal rose by half in the hot months of the last three years. The new seal's rubber is rated for the heat, but only in the maker's own tests, not in the field; I put the middle a little higher for that, and the upper end well above the older seal's worst year.", i+1)
+		case 1:
+			why = fmt.Sprintf("Invented: the maker's bench tests (site %d) point low, but bench tests rarely see dirt in the oil.", i+1)
+		case 2:
+			why = fmt.Sprintf("Invented: field returns of a similar seal, site %d.", i+1)
+		default:
+			why = fmt.Sprintf("Invented: two things moved me (site %d).\nFirst, the fitters are new to this seal.\nSecond, the first batch comes from a new line.", i+1)
+		}
+		if i == 0 {
+			// As long as a reason may be: more than a page.
+			long := "Invented: the long view. "
+			for k := 1; len([]rune(long)) < input.MaxLongText-40; k++ {
+				long += "Point " + strconv.Itoa(k) + ": the seals of this kind wore faster in dusty sites. "
+			}
+			why = strings.TrimSpace(long)
+		}
+		rv.ID, rv.Reason = 0, why
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		reasons = append(reasons, why)
+	}
+	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatalf("close round 1: %v", err)
+	}
+	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room", reasons
+}
+
+// shownReason is a reason (or its part) on the reasons display, as laid
+// out on the screen.
+type shownReason struct {
+	Text   string       `json:"text"`   // as read: "Expert C: …"
+	Font   float64      `json:"font"`   // its type's size in px
+	Rects  [][4]float64 `json:"rects"`  // its lines' boxes: left, top, right, bottom
+	Inside bool         `json:"inside"` // every line inside the list's box
+}
+
+// TestReasonsDisplayFitsTheScreen: a panel of 20 experts, each with a
+// reason, on a 1280×720, a 1366×768 and a 1920×1080 projector. Beside the
+// picture the side column does not run past the screen's foot (only the
+// heading "Reasons" showed at 1280×720, half a reason at 1366×768): it
+// says how many reasons there are and links to the reasons display. The
+// display's pages, followed by the links (as a clicker's keys follow
+// them), show every reason once, none cut off or below the screen, none
+// over another or over the header or the keys, in type at least as large
+// as the room's reasons beside the picture, and lead back to the picture.
+func TestReasonsDisplayFitsTheScreen(t *testing.T) {
+	s := startSite(t)
+	room, reasons := roomReasonsPanel(t, s)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {
+		w, h := sz[0], sz[1]
+		phone := w < 600
+		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)
+		fac.viewport(w, h, phone)
+		if st := fac.open(room); st != http.StatusOK {
+			t.Fatalf("%s: room view: %d", screen, st)
+		}
+		if !phone {
+			fitsScreen(t, fac, int(w), int(h))
+			if over := overlappingParts(fac); len(over) > 0 {
+				t.Errorf("%s: the room view draws parts over one another: %q", screen, over)
+			}
+			if over := overlappingWords(fac); len(over) > 0 {
+				t.Errorf("%s: the room's pictures draw words over one another or outside themselves: %q", screen, over)
+			}
+			sideEnds(t, fac, screen)
+		}
+		if n := fac.count(".room-side .room-reasons li"); n != 0 {
+			t.Errorf("%s: the side column lists %d of the 20 reasons beside the picture", screen, n)
+		}
+		more := eval[string](fac, "the side's count of reasons", `(document.querySelector(".room-reasons-more") || {innerText: ""}).innerText`)
+		if more != "20 reasons: show them" {
+			t.Fatalf("%s: the side column says %q, not how many reasons there are with a link to them", screen, more)
+		}
+		shots.take(fac, "room-reasons-0-picture-"+strconv.FormatInt(w, 10))
+		// The link, as the facilitator clicks it.
+		if st := fac.load("show the reasons", chromedp.Click(chromedp.CSS(`#room-reasons-link`))); st != http.StatusOK {
+			t.Fatalf("%s: the reasons display: %d", screen, st)
+		}
+		// The room's reasons beside the picture are clamp(0.95rem,
+		// 1.15vw, 1.7rem): the display's are no smaller.
+		least := max(15.2, 1.15*float64(w)/100)
+		seen := map[string]int{}
+		var cont string // a reason continued on the next page, so far
+		for page := 1; ; page++ {
+			where := fmt.Sprintf("%s, page %d", screen, page)
+			heading := eval[string](fac, "the display's heading", `document.getElementById("room-reasons-heading").innerText`)
+			if !strings.HasPrefix(heading, "Reason") || !strings.Contains(heading, " of 20") {
+				t.Errorf("%s: the reasons display is headed %q", where, heading)
+			}
+			if !phone {
+				if sh := eval[int](fac, "page height", `document.documentElement.scrollHeight`); sh > int(h) {
+					t.Errorf("%s: the reasons display is %d px tall on a %d px screen: it scrolls", where, sh, h)
+				}
+				if sw := eval[int](fac, "page width", `document.documentElement.scrollWidth`); sw > int(w) {
+					t.Errorf("%s: the reasons display is %d px wide on a %d px screen", where, sw, w)
+				}
+			} else {
+				fits(t, fac, "the reasons display on a phone", w)
+			}
+			if over := reasonsOverlap(fac); len(over) > 0 {
+				t.Errorf("%s: the reasons display draws parts over one another: %q", where, over)
+			}
+			shown := eval[[]shownReason](fac, "the reasons on the page", `(() => {
+				const list = document.querySelector(".room-reasons-columns");
+				const box = list.getBoundingClientRect();
+				return Array.from(list.querySelectorAll("li")).map(li => {
+					const range = document.createRange();
+					range.selectNodeContents(li);
+					const rects = Array.from(range.getClientRects()).filter(r => r.width > 0 && r.height > 0).map(r => [r.left, r.top, r.right, r.bottom]);
+					return {
+						text: li.innerText,
+						font: parseFloat(getComputedStyle(li).fontSize),
+						rects: rects,
+						inside: rects.every(r => r[0] >= box.left - 1 && r[2] <= box.right + 1 && r[1] >= box.top - 1 && r[3] <= box.bottom + 1),
+					};
+				});
+			})()`)
+			if len(shown) == 0 {
+				t.Fatalf("%s: the reasons display shows no reason", where)
+			}
+			for _, r := range shown {
+				if r.Font < least {
+					t.Errorf("%s: %q is set in %.1f px type, under the room's %.1f", where, clip(r.Text, 60), r.Font, least)
+				}
+				if !r.Inside {
+					t.Errorf("%s: %q runs outside the list of reasons", where, clip(r.Text, 60))
+				}
+				for _, b := range r.Rects {
+					if !phone && (b[3] > float64(h)+0.5 || b[2] > float64(w)+0.5 || b[0] < -0.5 || b[1] < -0.5) {
+						t.Errorf("%s: a line of %q stands at %v, off the %s screen", where, clip(r.Text, 60), b, screen)
+					}
+				}
+				text := r.Text
+				if cont != "" {
+					text = cont + " " + strings.TrimPrefix(text, strings.SplitN(text, ":", 2)[0]+": ")
+					cont = ""
+				}
+				if c, ok := strings.CutSuffix(text, " (continues on the next page)"); ok {
+					cont = c
+					continue
+				}
+				seen[text]++
+			}
+			next := eval[string](fac, "the next link", `(document.getElementById("room-next") || {innerText: ""}).innerText`)
+			shots.take(fac, fmt.Sprintf("room-reasons-%d-page-%d", w, page))
+			if next != "next reasons →" {
+				break
+			}
+			if page > 20 {
+				t.Fatalf("%s: more pages than reasons", where)
+			}
+			if st := fac.load("the next reasons", chromedp.Click(chromedp.CSS(`#room-next`))); st != http.StatusOK {
+				t.Fatalf("%s: the next page of reasons: %d", where, st)
+			}
+		}
+		// Every reason once, under its letter, over all pages.
+		var got []string
+		for text, n := range seen {
+			if n != 1 {
+				t.Errorf("%s: %q is shown %d times", screen, clip(text, 60), n)
+			}
+			label, why, _ := strings.Cut(text, ": ")
+			if !strings.HasPrefix(label, "Expert ") {
+				t.Errorf("%s: a reason is labelled %q", screen, label)
+			}
+			got = append(got, why)
+		}
+		want := append([]string(nil), reasons...)
+		sort.Strings(got)
+		sort.Strings(want)
+		if strings.Join(got, "|") != strings.Join(want, "|") {
+			t.Errorf("%s: the pages show the reasons\n%q\nwant every expert's once:\n%q", screen, got, want)
+		}
+		// And back to the picture.
+		if st := fac.load("back to the picture", chromedp.Click(chromedp.CSS(`#room-picture-link`))); st != http.StatusOK || fac.count(".room-chart svg.chart-svg") == 0 {
+			t.Errorf("%s: back to the picture: %d, %d pictures", screen, st, fac.count(".room-chart svg.chart-svg"))
+		}
+	}
+	// The display follows the panel live: a reason withheld in another
+	// tab leaves it, and the count, within the live pages' bound.
+	fac.viewport(1920, 1080, false)
+	fac.open(room + "?show=reasons")
+	fac.waitFor("the display's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	list := fac.tab("the reasons to withhold")
+	list.viewport(1366, 900, false)
+	list.open(strings.TrimSuffix(room, "/room") + "/reasons")
+	// A reason the room shows (the list has the earlier ones too).
+	withheld := eval[string](list, "a reason to withhold", `(() => {
+		const li = Array.from(document.querySelectorAll("#reasons li")).find(li => li.innerText.includes("two things moved me"));
+		li.querySelector("input[name=withhold_reason]").value = "Names a site's owner (invented).";
+		li.querySelector("button[type=submit]").id = "withhold-this";
+		return li.innerText.split(":").slice(1).join(":").trim().split("\n")[0];
+	})()`)
+	if st := list.load("withhold a reason", chromedp.Click(chromedp.CSS(`#withhold-this`))); st != http.StatusOK {
+		t.Fatalf("withhold: %d", st)
+	}
+	if err := fac.poll(liveWithin, `document.getElementById("room-reasons-heading").innerText.includes(" of 19")`); err != nil {
+		t.Errorf("the reasons display did not follow a withheld reason within %v: %v (headed %q)", liveWithin, err, eval[string](fac, "heading", `document.getElementById("room-reasons-heading").innerText`))
+	}
+	if withheld == "" || strings.Contains(fac.text(), clip(withheld, 50)) {
+		t.Errorf("the reasons display still shows the withheld reason %q", clip(withheld, 50))
+	}
+}
+
+// sideEnds fails when the room's side column (the median strip and the
+// reasons beside the picture) runs past its own foot, where the page
+// hides it: a projector's room would not see it.
+func sideEnds(t *testing.T, p *person, screen string) {
+	t.Helper()
+	type side struct {
+		Scroll float64 `json:"scroll"`
+		Client float64 `json:"client"`
+		Bottom float64 `json:"bottom"`
+	}
+	s := eval[side](p, "the side column", `(() => {
+		const e = document.querySelector(".room-side");
+		const last = e.lastElementChild.getBoundingClientRect();
+		return {scroll: e.scrollHeight, client: e.clientHeight, bottom: last.bottom};
+	})()`)
+	if s.Scroll > s.Client+1 {
+		t.Errorf("%s: the side column holds %.0f px in %.0f: its foot is cut off", screen, s.Scroll, s.Client)
+	}
+	if h := eval[float64](p, "the screen's height", `window.innerHeight`); s.Bottom > h {
+		t.Errorf("%s: the side column ends at %.0f px, below the %.0f px screen", screen, s.Bottom, h)
+	}
+}
+
+// reasonsOverlap names the reasons display's parts drawn over one
+// another: the header, the heading, each reason and the keys.
+func reasonsOverlap(p *person) []string {
+	return eval[[]string](p, "the reasons display's parts over one another", `(() => {
+		const parts = [["the header", document.querySelector(".room-head")], ["the heading", document.querySelector(".room-reasons-head")], ["the keys", document.querySelector(".room-nav")]].
+			concat(Array.from(document.querySelectorAll(".room-reasons-columns li")).flatMap((li, i) => {
+				const range = document.createRange();
+				range.selectNodeContents(li);
+				return Array.from(range.getClientRects()).filter(r => r.width > 0 && r.height > 0).map(r => ["reason " + (i + 1), {getBoundingClientRect: () => r}]);
+			})).
+			filter(([, e]) => e);
+		const out = [];
+		for (let i = 0; i < parts.length; i++) for (let j = i + 1; j < parts.length; j++) {
+			if (parts[i][0] === parts[j][0]) continue;
+			const a = parts[i][1].getBoundingClientRect(), b = parts[j][1].getBoundingClientRect();
+			if (a.top < b.bottom - 1 && b.top < a.bottom - 1 && a.left < b.right - 1 && b.left < a.right - 1) out.push(parts[i][0] + " over " + parts[j][0]);
+		}
+		return out;
+	})()`)
+}
+
+// reasonsBeside fails unless the room lists its reasons (want among
+// them) beside the picture, whole and on the screen, as the invented
+// demo's panel of four does, with no link to the reasons display.
+func reasonsBeside(t *testing.T, p *person, screen, want string) {
+	t.Helper()
+	listed := eval[[]string](p, "the reasons beside the picture", `Array.from(document.querySelectorAll(".room-side .room-reasons li")).map(li => li.innerText)`)
+	if !strings.Contains(strings.Join(listed, "\n"), want) {
+		t.Errorf("%s: the room lists %q beside the picture, without %q", screen, listed, want)
+	}
+	if p.count("#room-reasons-link") != 0 {
+		t.Errorf("%s: the room sends its %d reasons to the reasons display", screen, len(listed))
+	}
+	sideEnds(t, p, screen)
+}

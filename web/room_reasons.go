@@ -1,0 +1,288 @@
+package web
+
+import (
+	"math"
+	"strconv"
+	"strings"
+	"unicode/utf8"
+
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// The room's reasons. Beside the picture the side column holds the
+// median strip and, under it, what room is left: at 1280×720 a few lines.
+// A large panel's reasons ran off the screen's foot there (20 reasons:
+// only the heading showed at 1280×720, one reason cut in half at
+// 1366×768, six and a half at 1920×1080), and nobody scrolls a projector.
+// So the room lists the reasons beside the picture only when they fit
+// there on the smallest projector; otherwise the side column says how
+// many there are, with a link to the reasons display: the same room view
+// (?show=reasons) with the reasons in three columns over the screen's
+// width, in pages that each fit the screen ("Reasons 1–12 of 20", next
+// and back), and back to the picture. Links, not script: the server lays
+// the pages out.
+//
+// Whether text fits is estimated here, not measured: the server does not
+// know the screen. Every size of the room's type is a share of the
+// screen's width on a projector (style.css: 1.15vw, 1.3vw, …, above the
+// clamps' floors, which bind only below 1231 px), so on a 16:9 projector
+// (1280×720, 1366×768, 1920×1080) a column holds the same number of
+// characters and a page the same number of lines at every size; a taller
+// screen (16:10, 4:3) holds more. Widths are DejaVu Sans's
+// (chart.TextEm), what Chromium draws the room in on Debian and wider
+// than the other fonts the stylesheet names, and each measure below is
+// rounded down, so a font that sets the text a little wider still fits.
+// TestReasonsDisplayFitsTheScreen (e2e) lays the pages out in Chromium at
+// each projector size.
+
+// Beside the picture (style.css .room-reasons, clamp(0.95rem, 1.15vw,
+// 1.7rem), and the side column 9/25 of the width up to 1600 px): a line
+// of at least 27.3 em at 1280 px, where the font's floor binds.
+const (
+	sideLineEm = 26
+	// sideLines is what the side column holds under the median strip at
+	// 1280×720 beside a panel of up to four experts (the strip's table of
+	// three rows) and a wording of two lines: about five, read off the
+	// invented demo's screenshot (its one reason's two lines and some 70
+	// px under them), less one to spare.
+	sideLines = 4
+	// sideLinesQuartiles is the same under a strip of five experts or
+	// more, whose table adds the quartiles (two rows, 64 px) and whose
+	// legend takes a second line: none. Twenty experts' strip leaves room
+	// for the line that counts the reasons and links to them, and not for
+	// a heading over it too (13 px short).
+	sideLinesQuartiles = 0
+)
+
+// The reasons display (style.css .room-reasons-page): type of 1.3vw, lines
+// of 1.35 em, three columns in the 96vw between the margins with gaps of
+// 2vw, so a column of 23.6 em; the screen's height, 56.25vw on 16:9, is
+// 43.3 em. The header above the reasons (wording, state, fingerprint) and
+// the heading and keys around them take the rest, estimated from their
+// own text below.
+const (
+	pageColumns  = 3
+	pageColumnEm = 23 // 23.6 em, less a margin
+	pageLineEm   = 1.35
+	pageScreenEm = 43.27
+	// pageFixedEm is the page's parts that are the same on every room:
+	// the invented banner, the workshop's line, the heading "Reasons 1–12
+	// of 20" with its links, the keys at the foot, and the margins, in
+	// the reasons' ems (8.8 em at 1280×720, read off a screenshot: the
+	// list starting 190 px down, the keys' rule at 686 px), and one to
+	// spare.
+	pageFixedEm = 10
+	// The header's own lines: the wording in 1.65vw type, lines of 1.25
+	// em (1.59 reasons' ems each) over 96vw (58 of its ems); the state and
+	// the fingerprint in 1.3vw type, lines of 1.5 em over 73.8 em.
+	wordingLineEm = 1.65 * 1.25 / 1.3
+	wordingWideEm = 96 / 1.65
+	stateLineEm   = 1.5
+	stateWideEm   = 96 / 1.3
+)
+
+// textLines is how many lines text takes in a column wide ems wide, its
+// first line starting lead ems in (after a label), words wrapped where
+// the column ends, a word wider than the column broken (overflow-wrap:
+// anywhere) and the text's own line breaks kept (white-space: pre-wrap).
+func textLines(text string, wide, lead float64, bold bool) int {
+	space := chart.TextEm(" ", bold)
+	lines := 0
+	for i, para := range strings.Split(text, "\n") {
+		x := 0.0
+		if i == 0 {
+			x = lead
+		}
+		lines++
+		for _, word := range strings.Split(para, " ") {
+			w := chart.TextEm(word, bold)
+			if x > 0 && x+space+w > wide {
+				lines++
+				x = 0
+			}
+			for w > wide {
+				w -= wide
+				lines++
+			}
+			if x > 0 {
+				x += space
+			}
+			x += w
+		}
+	}
+	return lines
+}
+
+// reasonLines is the lines one reason takes under its label ("Expert C:
+// "), in a column wide ems wide.
+func reasonLines(r feedbackReason, wide float64) int {
+	return textLines(r.Reason, wide, chart.TextEm(r.Label+": ", true), false)
+}
+
+// reasonsBeside reports whether the reasons fit under the median strip
+// of a panel of members experts on the smallest projector, with the
+// question's wording as long as it is.
+func reasonsBeside(reasons []feedbackReason, members int, wording string) bool {
+	room := sideLines
+	if members >= 5 {
+		room = sideLinesQuartiles
+	}
+	// Each line of the wording past two takes a line from the side.
+	room -= max(0, textLines(wording, wordingWideEm, 0, true)-2)
+	lines := 0
+	for _, r := range reasons {
+		lines += reasonLines(r, sideLineEm)
+	}
+	return lines <= room
+}
+
+// reasonPiece is a reason, or the part of one that fits a page, on the
+// reasons display.
+type reasonPiece struct {
+	N     int // the reason's place among the reasons, from 1
+	Label string
+	Text  string
+	Cont  bool // continues the reason from the page before
+	More  bool // the reason continues on the next page
+}
+
+// Named is the piece's label, "(continued)" after it on a page that
+// carries on a reason from the page before.
+func (p reasonPiece) Named() string {
+	if p.Cont {
+		return p.Label + " (continued)"
+	}
+	return p.Label
+}
+
+// Continues says, after the piece, that its reason goes on over the page.
+func (p reasonPiece) Continues() string {
+	if p.More {
+		return " (continues on the next page)"
+	}
+	return ""
+}
+
+// reasonsScreen is one page of the reasons display, a screenful: the reasons (or
+// parts) it shows, and their places from First to Last.
+type reasonsScreen struct {
+	Pieces      []reasonPiece
+	First, Last int
+}
+
+// pageLines is how many lines of reasons one page holds under the
+// room's header.
+func pageLines(header []string) float64 {
+	em := pageScreenEm - pageFixedEm
+	for i, h := range header {
+		if h == "" {
+			continue
+		}
+		if i == 0 {
+			em -= wordingLineEm * float64(textLines(h, wordingWideEm, 0, true))
+		} else {
+			em -= stateLineEm * float64(textLines(h, stateWideEm, 0, false))
+		}
+	}
+	perColumn := math.Floor(em / pageLineEm)
+	// A column may end a line short of its foot, where the next reason's
+	// first line does not fit under its label; and never hold less than
+	// a few lines, however long the header.
+	return pageColumns * max(4, perColumn-1)
+}
+
+// reasonGap is the space between two reasons, in lines (0.4 em).
+const reasonGap = 0.4 / pageLineEm
+
+// pagesOfReasons lays the reasons out in pages of at most lines lines
+// each, in order; a reason longer than a whole page is cut at a word
+// between pages and marked as continued.
+func pagesOfReasons(reasons []feedbackReason, lines float64) []reasonsScreen {
+	var pages []reasonsScreen
+	var cur reasonsScreen
+	used := 0.0
+	flush := func() {
+		if len(cur.Pieces) > 0 {
+			pages = append(pages, cur)
+		}
+		cur, used = reasonsScreen{}, 0
+	}
+	add := func(p reasonPiece, cost float64) {
+		if len(cur.Pieces) == 0 {
+			cur.First = p.N
+		}
+		cur.Pieces = append(cur.Pieces, p)
+		cur.Last = p.N
+		used += cost + reasonGap
+	}
+	for i, r := range reasons {
+		p := reasonPiece{N: i + 1, Label: r.Label, Text: r.Reason}
+		for {
+			n := float64(textLines(p.Text, pageColumnEm, chart.TextEm(p.Label+": ", true), false))
+			if used+n <= lines {
+				add(p, n)
+				break
+			}
+			if n <= lines {
+				// It fits a page of its own: start one.
+				flush()
+				continue
+			}
+			// Longer than a page: what fits of it here, the rest on the
+			// next.
+			left := lines - used
+			if left < 2 {
+				flush()
+				continue
+			}
+			head, tail := cutReason(p, left)
+			add(reasonPiece{N: p.N, Label: p.Label, Text: head, Cont: p.Cont, More: true}, left)
+			flush()
+			p = reasonPiece{N: p.N, Label: p.Label, Text: tail, Cont: true}
+		}
+	}
+	flush()
+	return pages
+}
+
+// cutReason cuts p's text at the last space (or, in a word longer than
+// the page, the last character) that keeps its first part within lines
+// lines, and returns both parts.
+func cutReason(p reasonPiece, lines float64) (string, string) {
+	lead := chart.TextEm(p.Label+": ", true)
+	fits := func(n int) bool {
+		return float64(textLines(p.Text[:n], pageColumnEm, lead, false)) <= lines
+	}
+	// The longest prefix that fits, by halves over its length in bytes,
+	// then back to a character's start; at least one character.
+	lo, hi := 0, len(p.Text)
+	for hi-lo > 1 {
+		mid := (lo + hi) / 2
+		if fits(mid) {
+			lo = mid
+		} else {
+			hi = mid
+		}
+	}
+	for lo > 0 && !utf8.RuneStart(p.Text[lo]) {
+		lo--
+	}
+	if lo == 0 {
+		_, lo = utf8.DecodeRuneInString(p.Text)
+	}
+	cut := lo
+	if sp := strings.LastIndexAny(p.Text[:lo], " \n"); sp > 0 {
+		cut = sp
+	}
+	return strings.TrimRight(p.Text[:cut], " \n"), strings.TrimLeft(p.Text[cut:], " \n")
+}
+
+// reasonsRange is a page's heading: "Reasons 1–12 of 20", "Reason 5 of
+// 20" (and "(continued)") where the page holds one reason or part of it.
+func reasonsRange(p reasonsScreen, total int) string {
+	of := " of " + strconv.Itoa(total)
+	if p.First == p.Last {
+		return "Reason " + strconv.Itoa(p.First) + of
+	}
+	return "Reasons " + strconv.Itoa(p.First) + "–" + strconv.Itoa(p.Last) + of
+}
