@@ -70,7 +70,10 @@ type shownReason struct {
 }
 
 // TestReasonsDisplayFitsTheScreen: a panel of 20 experts, each with a
-// reason, on a 1280×720, a 1366×768 and a 1920×1080 projector. Beside the
+// reason, on a 1280×720, a 1366×768 and a 1920×1080 projector, and on the
+// older 1024×768 (4:3, where the type's floors bind and a column holds
+// fewer words) and 1280×800 (16:10); on a phone the display flows in one
+// column and scrolls, nothing wider than the screen. Beside the
 // picture the side column does not run past the screen's foot (only the
 // heading "Reasons" showed at 1280×720, half a reason at 1366×768): it
 // says how many reasons there are and links to the reasons display. The
@@ -85,7 +88,7 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, s, fac)
-	for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {
+	for _, sz := range [][2]int64{{1024, 768}, {1280, 800}, {1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {
 		w, h := sz[0], sz[1]
 		phone := w < 600
 		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)

@@ -28,7 +28,9 @@ import (
 // clamps' floors, which bind only below 1231 px), so on a 16:9 projector
 // (1280×720, 1366×768, 1920×1080) a column holds the same number of
 // characters and a page the same number of lines at every size; a taller
-// screen (16:10, 4:3) holds more. Widths are DejaVu Sans's
+// screen (16:10, 4:3) holds more: on a 1024×768 projector the type's
+// floors bind and a column holds fewer words (19.6 of the type's ems),
+// and the screen's height holds 48 ems, where 16:9 holds 43. Widths are DejaVu Sans's
 // (chart.TextEm), what Chromium draws the room in on Debian and wider
 // than the other fonts the stylesheet names, and each measure below is
 // rounded down, so a font that sets the text a little wider still fits.
