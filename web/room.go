@@ -126,7 +126,11 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	layOutReasons(&v, roomPath(ws.ID, q.ID), show, page)
-	m := pageMeta{Title: "Room view · Q" + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
+	title := "Room view · Q"
+	if show {
+		title = "Room view, reasons · Q"
+	}
+	m := pageMeta{Title: title + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
 		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
 	s.renderPage(w, r, http.StatusOK, m, roomPage(v))
 }

@@ -177,6 +177,9 @@ func readReasonsPages(t *testing.T, h *harness, room string) ([]string, int) {
 		if r.StatusCode != http.StatusOK {
 			t.Fatalf("%s: %d", path, r.StatusCode)
 		}
+		if !strings.Contains(body, "<title>Room view, reasons · Q1 ") {
+			t.Errorf("%s is not titled as the room's reasons", path)
+		}
 		heading := reasonsH2.FindStringSubmatch(body)
 		if heading == nil || !strings.Contains(heading[1], "page "+strconv.Itoa(page)+" of ") {
 			t.Errorf("%s is headed %q", path, heading)
