@@ -12,6 +12,7 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // roomReasonsPanel is largePanelWith's 20 invented experts, each of whom
@@ -301,4 +302,52 @@ func reasonsBeside(t *testing.T, p *person, screen, want string) {
 		t.Errorf("%s: the room sends its %d reasons to the reasons display", screen, len(listed))
 	}
 	sideEnds(t, p, screen)
+}
+
+// TestFewReasonsStayBesideThePicture: a panel of four, as many as the
+// side column's room for reasons is set for (four lines under a strip of
+// up to four experts and a wording of two lines at 1280 px), each expert
+// with a reason of a line: all four stand beside the picture, whole and
+// on the screen, at every projector size.
+func TestFewReasonsStayBesideThePicture(t *testing.T) {
+	s := startSite(t)
+	ws, q := largePanelWith(t, s, 4, func(q *workshop.Question) {
+		q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
+	})
+	ctx := context.Background()
+	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+	if err != nil || len(latest) != 4 {
+		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+	}
+	for i, rv := range latest {
+		rv.ID, rv.Reason = 0, fmt.Sprintf("Invented: site %d's returns.", i+1)
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatalf("close round 1: %v", err)
+	}
+	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}} {
+		w, h := sz[0], sz[1]
+		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)
+		fac.viewport(w, h, false)
+		if st := fac.open(room); st != http.StatusOK {
+			t.Fatalf("%s: room view: %d", screen, st)
+		}
+		if lines := eval[int](fac, "the wording's lines", `Math.round(document.querySelector(".room-question").getBoundingClientRect().height / parseFloat(getComputedStyle(document.querySelector(".room-question")).lineHeight))`); w == 1280 && lines != 2 {
+			t.Errorf("%s: the wording takes %d lines, want 2 (the side's room is set for two)", screen, lines)
+		}
+		if n := fac.count(".room-side .room-reasons li"); n != 4 {
+			t.Errorf("%s: %d of the 4 reasons beside the picture", screen, n)
+		}
+		reasonsBeside(t, fac, screen, "Invented: site 1's returns.")
+		fitsScreen(t, fac, int(w), int(h))
+		shots.take(fac, "room-reasons-beside-"+strconv.FormatInt(w, 10))
+	}
 }
