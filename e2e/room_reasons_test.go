@@ -68,6 +68,10 @@ type shownReason struct {
 	Font   float64      `json:"font"`   // its type's size in px
 	Rects  [][4]float64 `json:"rects"`  // its lines' boxes: left, top, right, bottom
 	Inside bool         `json:"inside"` // every line inside the list's box
+	// Columns is how many of the list's columns its lines stand in; Long,
+	// that it is longer than a column and may run on down the next.
+	Columns int  `json:"columns"`
+	Long    bool `json:"long"`
 }
 
 // TestReasonsDisplayFitsTheScreen: a panel of 20 experts, each with a
@@ -155,6 +159,8 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 						font: parseFloat(getComputedStyle(li).fontSize),
 						rects: rects,
 						inside: rects.every(r => r[0] >= box.left - 1 && r[2] <= box.right + 1 && r[1] >= box.top - 1 && r[3] <= box.bottom + 1),
+						columns: new Set(rects.map(r => Math.floor((r[0] - box.left + 1) / (box.width / (parseInt(getComputedStyle(list).columnCount) || 1))))).size,
+						long: li.hasAttribute("data-long"),
 					};
 				});
 			})()`)
@@ -167,6 +173,11 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 				}
 				if !r.Inside {
 					t.Errorf("%s: %q runs outside the list of reasons", where, clip(r.Text, 60))
+				}
+				// A reason that fits a column is not split between two:
+				// its last lines stood unnamed at the top of the next.
+				if r.Columns > 1 && !r.Long {
+					t.Errorf("%s: %q is split over %d columns", where, clip(r.Text, 60), r.Columns)
 				}
 				for _, b := range r.Rects {
 					if !phone && (b[3] > float64(h)+0.5 || b[2] > float64(w)+0.5 || b[0] < -0.5 || b[1] < -0.5) {

@@ -146,6 +146,9 @@ type reasonPiece struct {
 	Text  string
 	Cont  bool // continues the reason from the page before
 	More  bool // the reason continues on the next page
+	// Long: the piece is longer than a column and runs on down the
+	// next; every other piece is kept whole in one column.
+	Long bool
 }
 
 // Named is the piece's label, "(continued)" after it on a page that
@@ -172,8 +175,8 @@ type reasonsScreen struct {
 	First, Last int
 }
 
-// pageLines is how many lines of reasons one page holds under the
-// room's header.
+// pageLines is how many lines of reasons one column of a page holds
+// under the room's header.
 func pageLines(header []string) float64 {
 	em := pageScreenEm - pageFixedEm
 	for i, h := range header {
@@ -190,55 +193,79 @@ func pageLines(header []string) float64 {
 	// A column may end a line short of its foot, where the next reason's
 	// first line does not fit under its label; and never hold less than
 	// a few lines, however long the header.
-	return pageColumns * max(4, perColumn-1)
+	return max(4, perColumn-1)
 }
 
 // reasonGap is the space between two reasons, in lines (0.4 em).
 const reasonGap = 0.4 / pageLineEm
 
-// pagesOfReasons lays the reasons out in pages of at most lines lines
-// each, in order; a reason longer than a whole page is cut at a word
-// between pages and marked as continued.
-func pagesOfReasons(reasons []feedbackReason, lines float64) []reasonsScreen {
+// pagesOfReasons lays the reasons out in pages of pageColumns columns of
+// at most column lines each, in order, as the browser does: a reason that
+// fits a column is kept whole in one (style.css breaks none inside it, so
+// that no reason's last lines stand unnamed at the top of the next
+// column) and starts the next column where the rest of this one is too
+// short; a reason longer than a column runs on down the next (Long); one
+// longer than what is left of the page is cut at a word between pages and
+// marked as continued.
+func pagesOfReasons(reasons []feedbackReason, column float64) []reasonsScreen {
 	var pages []reasonsScreen
 	var cur reasonsScreen
-	used := 0.0
+	col, used := 0, 0.0 // the column being filled, and its lines used
 	flush := func() {
 		if len(cur.Pieces) > 0 {
 			pages = append(pages, cur)
 		}
-		cur, used = reasonsScreen{}, 0
+		cur, col, used = reasonsScreen{}, 0, 0
 	}
-	add := func(p reasonPiece, cost float64) {
+	// left is what the page holds from here on, down the columns.
+	left := func() float64 { return column - used + float64(pageColumns-1-col)*column }
+	add := func(p reasonPiece, n float64) {
 		if len(cur.Pieces) == 0 {
 			cur.First = p.N
 		}
 		cur.Pieces = append(cur.Pieces, p)
 		cur.Last = p.N
-		used += cost + reasonGap
+		used += n + reasonGap
+		for used > column && col < pageColumns-1 {
+			used -= column
+			col++
+		}
 	}
 	for i, r := range reasons {
 		p := reasonPiece{N: i + 1, Label: r.Label, Text: r.Reason}
 		for {
 			n := float64(textLines(p.Text, pageColumnEm, chart.TextEm(p.Label+": ", true), false))
-			if used+n <= lines {
+			if n <= column {
+				// Whole in one column: this one, or the next.
+				if used+n > column && used > 0 {
+					if col == pageColumns-1 {
+						flush()
+						continue
+					}
+					col, used = col+1, 0
+				}
 				add(p, n)
 				break
 			}
-			if n <= lines {
+			p.Long = true
+			if n <= left() {
+				add(p, n)
+				break
+			}
+			if n <= float64(pageColumns)*column && len(cur.Pieces) > 0 {
 				// It fits a page of its own: start one.
 				flush()
 				continue
 			}
 			// Longer than a page: what fits of it here, the rest on the
 			// next.
-			left := lines - used
-			if left < 2 {
+			room := left()
+			if room < 2 {
 				flush()
 				continue
 			}
-			head, tail := cutReason(p, left)
-			add(reasonPiece{N: p.N, Label: p.Label, Text: head, Cont: p.Cont, More: true}, left)
+			head, tail := cutReason(p, room)
+			add(reasonPiece{N: p.N, Label: p.Label, Text: head, Cont: p.Cont, More: true, Long: true}, room)
 			flush()
 			p = reasonPiece{N: p.N, Label: p.Label, Text: tail, Cont: true}
 		}

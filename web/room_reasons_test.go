@@ -68,7 +68,7 @@ func reasonsPanel(t *testing.T, n int) (*harness, workshop.Workshop, []workshop.
 }
 
 var (
-	reasonItem = regexp.MustCompile(`<li><strong>(Expert [A-Z]+)( \(continued\))?</strong>: ([^<]*)<span class="room-reasons-cont">([^<]*)</span></li>`)
+	reasonItem = regexp.MustCompile(`<li(?: data-long)?><strong>(Expert [A-Z]+)( \(continued\))?</strong>: ([^<]*)<span class="room-reasons-cont">([^<]*)</span></li>`)
 	roomNext   = regexp.MustCompile(`<a id="room-next" rel="next" href="([^"]*)">([^<]*)</a>`)
 	roomPrev   = regexp.MustCompile(`<a id="room-prev" rel="prev" href="([^"]*)">([^<]*)</a>`)
 	reasonsH2  = regexp.MustCompile(`<h2 id="room-reasons-heading">([^<]*)</h2>`)
