@@ -616,8 +616,12 @@ func (s score) below(t score) bool {
 // calibration score on fewer realisations is a weaker test (2·N·I
 // shrinks with N), so without this rule experts who skipped the
 // questions they would have missed could win the pool its best score.
-// (Our rule, no source: Cooke's classical model assumes every expert
-// answers every calibration question.)
+// The rule errs towards the wider pool: a question that only one expert
+// answered rules out every cut-off above that expert's score, however
+// poor it is, so that expert keeps a weight (a small one where the
+// score is poor: weights are ∝ C·I). (Our rule, no source: Cooke's
+// classical model assumes every expert answers every calibration
+// question; the calibration page warns when they did not.)
 func (s *seedSet) bestAlpha(es []ExpertScore) score {
 	var cands []score
 	for _, e := range es {
