@@ -16,14 +16,23 @@ import (
 // one transaction that changes the row and records its event with the
 // reason, so the record keeps what was there before.
 
-// CountAnswers returns how many revisions experts have saved on the
-// question.
-func (db *DB) CountAnswers(ctx context.Context, questionID int64) (int, error) {
-	var n int
-	if err := db.r.QueryRowContext(ctx, `SELECT COUNT(*) FROM revisions WHERE question_id = ?`, questionID).Scan(&n); err != nil {
-		return 0, fmt.Errorf("store: count answers: %w", err)
+// Recorded returns what the record holds against the question that
+// fixes its scale: the experts' revisions and the agreed priors
+// (workshop.Recorded.Lock).
+func (db *DB) Recorded(ctx context.Context, questionID int64) (workshop.Recorded, error) {
+	return recordedFor(ctx, db.r, questionID)
+}
+
+// recordedFor counts a question's answers and agreed priors.
+func recordedFor(ctx context.Context, q querier, questionID int64) (workshop.Recorded, error) {
+	var r workshop.Recorded
+	err := q.QueryRowContext(ctx, `SELECT
+		(SELECT COUNT(*) FROM revisions WHERE question_id = ?1),
+		(SELECT COUNT(*) FROM agreed_priors WHERE question_id = ?1)`, questionID).Scan(&r.Answers, &r.Priors)
+	if err != nil {
+		return r, fmt.Errorf("store: what is recorded for question %d: %w", questionID, err)
 	}
-	return n, nil
+	return r, nil
 }
 
 // questionChange is an EventQuestionEdited's detail: the changed fields
@@ -54,16 +63,16 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		if err != nil {
 			return err
 		}
-		var answers int
-		if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM revisions WHERE question_id = ?`, q.ID).Scan(&answers); err != nil {
-			return fmt.Errorf("store: edit question: %w", err)
+		rec, err := recordedFor(ctx, tx, q.ID)
+		if err != nil {
+			return err
 		}
 		// What the correction may not touch comes from the stored row.
 		// The scale is set on the calibration page (SetLogScale); a
 		// correction keeps it and is held to it.
 		q.WorkshopID, q.Position, q.Revealed, q.RevealedAt, q.RevealedThrough, q.Retired, q.LogScale =
 			old.WorkshopID, old.Position, old.Revealed, old.RevealedAt, old.RevealedThrough, old.Retired, old.LogScale
-		if err := old.CheckCorrection(q, answers > 0); err != nil {
+		if err := old.CheckCorrection(q, rec); err != nil {
 			return err
 		}
 		if _, err := tx.ExecContext(ctx,

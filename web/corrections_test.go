@@ -542,3 +542,83 @@ func TestPanelSaysACorrectionWasSaved(t *testing.T) {
 		t.Error("the panel after bringing the question back does not say so")
 	}
 }
+
+// TestPriorFixesTheQuestionsScale: a question nobody answered, but with a
+// prior agreed for it (and study data, which need one), keeps its bounds,
+// format and probabilities as answers would fix them. A bound
+// corrected under a quick prior left the prior on [0, 1] beside a
+// question on [0, 200], and probabilities corrected under a consensus
+// prior reread the room's judgement at other probabilities; either way
+// the workshop's exported record no longer read back (found in review).
+// Now the correction is refused naming the field and the rule, nothing is
+// saved, the form says why before it is sent, and the wording can still
+// be corrected.
+func TestPriorFixesTheQuestionsScale(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	ctx := context.Background()
+	add := func(wording string) workshop.Question {
+		q := workshop.Question{WorkshopID: ws.ID, Wording: wording, Quantity: "pump failure share (invented)",
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+		if err := h.db.AddQuestion(ctx, &q); err != nil {
+			t.Fatal(err)
+		}
+		return q
+	}
+	correct := func(q workshop.Question, change func(url.Values)) (*http.Response, string) {
+		form := url.Values(questionValues(q))
+		change(form)
+		form.Set("reason", "Invented correction.")
+		return h.post(questionPath(ws.ID, q.ID)+"/edit", form)
+	}
+	readsBack := func(when string) {
+		t.Helper()
+		_, js := h.get(workshopPath(ws.ID) + "/export.json")
+		if _, err := record.Parse(strings.NewReader(js)); err != nil {
+			t.Errorf("%s: the exported record does not read back: %v", when, err)
+		}
+	}
+
+	// A quick prior, then study data.
+	quick := add("(Invented.) What share of pumps fail in year one?")
+	if r, body := h.post(workshopPath(ws.ID)+"/quick-priors/agree", url.Values{
+		"question": {strconv.FormatInt(quick.ID, 10)}, "construction": {"mean_sd"}, "c_mean": {"0.2"}, "c_sd": {"0.1"},
+		"confirm_open": {"on"}, "rationale": {"Invented rationale."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("quick prior: %d %s", r.StatusCode, body)
+	}
+	_, page := h.get(questionPath(ws.ID, quick.ID) + "/edit")
+	if !strings.Contains(page, "A prior has been agreed for this question, so its bounds, format, probabilities") || strings.Contains(page, `name="upper"`) {
+		t.Error("the correction form under a prior offers the bounds, or does not say why it does not")
+	}
+	before := h.counts(ws.ID)
+	if r, body := correct(quick, func(f url.Values) { f.Set("upper", "200") }); r.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, "Upper bound: "+string(workshop.RuleLockedAfterPrior)) || h.counts(ws.ID) != before {
+		t.Errorf("bound corrected under a prior: %d, want 422 naming the upper bound and %q, nothing saved", r.StatusCode, workshop.RuleLockedAfterPrior)
+	}
+	if r, body := h.post(questionPath(ws.ID, quick.ID)+"/study/data", url.Values{
+		"successes": {"2"}, "trials": {"30"}, "source": {"Invented batch"}, "observed_on": {"2026-01-31"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("study data: %d %s", r.StatusCode, body)
+	}
+	if r, _ := correct(quick, func(f url.Values) { f.Set("lower", "0.01") }); r.StatusCode != http.StatusUnprocessableEntity {
+		t.Errorf("bound corrected under a prior and data: %d, want 422", r.StatusCode)
+	}
+	if r, body := correct(quick, func(f url.Values) { f.Set("wording", "(Invented.) What share of pumps fail in their first year?") }); r.StatusCode != http.StatusSeeOther {
+		t.Errorf("wording corrected under a prior: %d %s", r.StatusCode, body)
+	}
+	if got, _ := h.db.Question(ctx, quick.ID); got.Upper != 1 || got.Lower != 0 {
+		t.Errorf("the question's bounds moved under its prior: [%v, %v]", got.Lower, got.Upper)
+	}
+	readsBack("after corrections under a quick prior")
+
+	// A consensus judgement agreed as a prior: its probabilities stay.
+	cons := add("(Invented.) What share of seals leak in year one?")
+	if r, body := h.post(questionPath(ws.ID, cons.ID)+"/agree", url.Values{"source": {"consensus"},
+		"values[0]": {"0.05"}, "values[1]": {"0.15"}, "values[2]": {"0.4"},
+		"confirm_open": {"on"}, "rationale": {"Agreed in the room (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("consensus prior: %d %s", r.StatusCode, body)
+	}
+	if r, body := correct(cons, func(f url.Values) { f.Set("preset", "custom"); f.Set("custom_probs", "0.1, 0.5, 0.9") }); r.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, string(workshop.RuleLockedAfterPrior)) {
+		t.Errorf("probabilities corrected under a consensus prior: %d, want 422 with %q", r.StatusCode, workshop.RuleLockedAfterPrior)
+	}
+	readsBack("after a correction refused under a consensus prior")
+}

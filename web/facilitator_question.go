@@ -36,7 +36,18 @@ type questionForm struct {
 // has: with any, only its wording, quantity and units may change.
 type questionEdit struct {
 	Question workshop.Question
-	Answers  int
+	// Recorded is what the record holds against the question: answers
+	// and agreed priors, either of which fixes its scale.
+	Recorded workshop.Recorded
+}
+
+// since says what came after a form opened on a question nobody had
+// answered, and fixed its scale: answers, or else an agreed prior.
+func (e questionEdit) since() string {
+	if e.Recorded.Lock() == workshop.RuleLockedAfterPrior {
+		return "a prior was agreed for the question"
+	}
+	return "an expert answered"
 }
 
 func (v questionForm) action() string {
@@ -46,7 +57,7 @@ func (v questionForm) action() string {
 	return questionPath(v.Workshop.ID, v.Edit.Question.ID) + "/edit"
 }
 
-func (v questionForm) locked() bool { return v.Edit != nil && v.Edit.Answers > 0 }
+func (v questionForm) locked() bool { return v.Edit != nil && v.Edit.Recorded.Lock() != "" }
 
 // questionAliases maps elicit's field names in Question.Validate errors
 // to this form's fields.
@@ -199,7 +210,7 @@ func (v questionForm) refusalSummary() string {
 	case fixed && marked:
 		return "Nothing was saved. Correct the marked fields and send again; what this form changed in the fixed part of the question is said below the units."
 	case fixed:
-		return "Nothing was saved: this form was opened before an expert answered, and it changed what their answers now fix, as said below the units. " +
+		return "Nothing was saved: this form was opened before " + v.Edit.since() + ", which now fixes what this form changed, as said below the units. " +
 			"The wording, quantity and units you typed are kept here: send the form again to correct them."
 	}
 	return nothingSavedSummary
@@ -243,7 +254,7 @@ func joinFloats(xs []float64) string {
 // figures a bound of 12345 came back as 12340.
 func exact(x float64) string { return chart.FormatExact(x) }
 
-// loadEdit reads the question to correct and its number of answers.
+// loadEdit reads the question to correct and what is recorded for it.
 func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (workshop.Workshop, *questionEdit, bool) {
 	ws, ok := s.loadWorkshop(w, r)
 	if !ok {
@@ -253,12 +264,12 @@ func (s *Server) loadEdit(w http.ResponseWriter, r *http.Request) (workshop.Work
 	if !ok {
 		return ws, nil, false
 	}
-	n, err := s.store.CountAnswers(r.Context(), q.ID)
+	rec, err := s.store.Recorded(r.Context(), q.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return ws, nil, false
 	}
-	return ws, &questionEdit{Question: q, Answers: n}, true
+	return ws, &questionEdit{Question: q, Recorded: rec}, true
 }
 
 func (s *Server) editQuestionForm(w http.ResponseWriter, r *http.Request) {
@@ -284,7 +295,7 @@ func (s *Server) editQuestion(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	var next workshop.Question
-	if _, whole := r.PostForm["lower"]; ed.Answers > 0 && !whole {
+	if _, whole := r.PostForm["lower"]; ed.Recorded.Lock() != "" && !whole {
 		next = ed.Question
 		next.Wording = f.Text("wording", input.MaxLongText, true)
 		next.Quantity = f.Text("quantity", input.MaxShortText, true)

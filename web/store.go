@@ -45,7 +45,7 @@ type Store interface {
 	// scored on the log scale, recording the change with its reason.
 	SetLogScale(ctx context.Context, questionID int64, on bool, reason string) error
 	// Corrections, each with its event and reason.
-	CountAnswers(ctx context.Context, questionID int64) (int, error)
+	Recorded(ctx context.Context, questionID int64) (workshop.Recorded, error)
 	EditQuestion(ctx context.Context, q workshop.Question, reason string) error // workshop.Question.CheckCorrection
 	SetQuestionRetired(ctx context.Context, questionID int64, retired bool, reason string) error
 

@@ -11,9 +11,16 @@ import (
 // Rules for corrections made after a workshop has started.
 const (
 	RuleLockedAfterAnswers elicit.Rule = "cannot change once experts have answered the question"
-	RuleNothingChanged     elicit.Rule = "nothing to change"
-	RuleArchived           elicit.Rule = "the workshop is archived"
-	RuleHasAnswers         elicit.Rule = "the workshop has answers or agreed priors: archive it instead"
+	// RuleLockedAfterPrior fixes the same fields of a question nobody
+	// answered once a prior has been agreed for it (a quick prior, or a
+	// consensus judgement read at its probabilities): the prior is on
+	// the question's bounds, and a consensus means what it meant at the
+	// probabilities it was given at. Study data, recorded only against
+	// an agreed prior, are held by it too.
+	RuleLockedAfterPrior elicit.Rule = "cannot change once a prior has been agreed for the question"
+	RuleNothingChanged   elicit.Rule = "nothing to change"
+	RuleArchived         elicit.Rule = "the workshop is archived"
+	RuleHasAnswers       elicit.Rule = "the workshop has answers or agreed priors: archive it instead"
 	// RuleRevealedCalibration and RuleRevealedTruth keep a question whose
 	// true value has been shown to the experts a calibration question
 	// with a true value: its reveal, the time and the answers it froze,
@@ -33,7 +40,13 @@ const (
 // been shown, a question stays a calibration question with a true value
 // (RuleRevealedCalibration, RuleRevealedTruth). The ID, workshop,
 // position and reveal state are not the correction's to change.
-func (q Question) CheckCorrection(next Question, answered bool) error {
+//
+// An agreed prior fixes the same fields as answers do, named with
+// RuleLockedAfterPrior (Recorded.Lock): a
+// correction of the bounds under a prior left the prior on the old
+// bounds and the workshop's exported record unreadable (found in
+// review).
+func (q Question) CheckCorrection(next Question, rec Recorded) error {
 	if err := next.Validate(); err != nil {
 		return err
 	}
@@ -45,7 +58,7 @@ func (q Question) CheckCorrection(next Question, answered bool) error {
 			return inputErr("true_value", RuleRevealedTruth, "")
 		}
 	}
-	if answered {
+	if rule := rec.Lock(); rule != "" {
 		locked := []struct {
 			field   string
 			changed bool
@@ -61,7 +74,7 @@ func (q Question) CheckCorrection(next Question, answered bool) error {
 		}
 		for _, l := range locked {
 			if l.changed {
-				return inputErr(l.field, RuleLockedAfterAnswers, "")
+				return inputErr(l.field, rule, "")
 			}
 		}
 	}
@@ -69,6 +82,27 @@ func (q Question) CheckCorrection(next Question, answered bool) error {
 		return inputErr("wording", RuleNothingChanged, "the corrected question is the same as the question")
 	}
 	return nil
+}
+
+// Recorded is what the record holds against a question that fixes its
+// scale: the experts' answers (revisions) and the priors agreed for it
+// (study data are recorded only against an agreed prior).
+type Recorded struct {
+	Answers, Priors int
+}
+
+// Lock is the rule that fixes the question's bounds, format,
+// probabilities, bins, chips and calibration: answers', or an agreed
+// prior's where nobody answered; "" when it has neither and any part of
+// it may be corrected.
+func (r Recorded) Lock() elicit.Rule {
+	switch {
+	case r.Answers > 0:
+		return RuleLockedAfterAnswers
+	case r.Priors > 0:
+		return RuleLockedAfterPrior
+	}
+	return ""
 }
 
 // Corrected lists the names of the fields in which next differs from q,
