@@ -175,3 +175,73 @@ func TestSubnormalPointIsHeldAsItself(t *testing.T) {
 		t.Errorf("a subnormal point that is its value is warned of: %q", m)
 	}
 }
+
+// TestQuantileInTheGapBesideABound: a quantile between 0 and the smallest
+// double, 5e-324, is 0 as a double (and said to be beyond the double
+// range), not 5e-324 shown as a number; likewise 1 above the last double
+// below 1 (found in review). Beta(1e-5, 1) has I_x = x^(1e-5) (a closed
+// form), so its median is 0.5^(1e5) = e^−69314.7, about 10^−30103, and
+// Beta(1, 1e-5) has 1 − I_x = (1 − x)^(1e-5), so its 5% point lies
+// 0.95^(1e5), about 10^−2228, below 1. The quantile had been chosen
+// between the gap's ends by the nearer CDF, which there is far from
+// linear; and the fit's percentiles, solved from a stated value, had
+// stopped a few subnormals above 0 (9.9e-324) when a sixteenth of the
+// bracket rounded to 0.
+func TestQuantileInTheGapBesideABound(t *testing.T) {
+	if x := (Beta{Alpha: 1e-5, Beta: 1}).Quantile(0.5); x != 0 {
+		t.Errorf("Beta(1e-5, 1) median %v, want 0", x)
+	}
+	if x := (Beta{Alpha: 1, Beta: 1e-5}).Quantile(0.05); x != 1 {
+		t.Errorf("Beta(1, 1e-5) 5%% point %v, want 1", x)
+	}
+	d := ScaledBeta{Beta: Beta{Alpha: 1e-5, Beta: 1}, Lower: 0, Upper: 1}
+	if m, ok := beyondDouble(d, []ShownPoint{{P: 0.5, X: d.Quantile(0.5)}}, "the "); !ok || !strings.Contains(m, "50% point") {
+		t.Errorf("the median held as 0 is not said: %q", m)
+	}
+	// A fit whose median and 95% point lie far below the smallest double
+	// (the review's case): every percentile 0, and said.
+	f, err := FitQuantiles(Judgement{Probs: []float64{0.998, 0.999}, Values: []float64{1e-10, 0.5}, Lower: 0, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	if f.Percentiles != [3]float64{0, 0, 0} {
+		t.Errorf("fit %v: percentiles %v, want 0, 0, 0", f.Dist, f.Percentiles)
+	}
+	if m := warningMessage(f.Warnings, WarnBeyondDouble); !strings.Contains(m, "50% point") || !strings.Contains(m, "95% point") {
+		t.Errorf("fit: warning %q", m)
+	}
+}
+
+// TestPoolQuantileBesideTheSmallestDouble: a pool's quantile bracketed
+// from the smallest double split its bracket as √(lo·hi), which underflowed
+// to 0, so the median of this pool came back as 5e-324, marked unique,
+// and the single Beta was fitted to it (found in review). The median of
+// ½ Beta(1e-5, 0.99999) + ½ Beta(2, 2) is 0.00427061388170488: R 4.2.2,
+// uniroot(function(x) 0.5*pbeta(x,1e-5,0.99999)+0.5*pbeta(x,2,2)-0.5,
+// c(1e-300,0.5), tol=1e-16). Its 25% point lies below the smallest double
+// (0.5·I_x(1e-5, 0.99999) is still 0.496 at 5e-324): 0.
+func TestPoolQuantileBesideTheSmallestDouble(t *testing.T) {
+	p, err := LinearPool([]ScaledBeta{Unit(Beta{Alpha: 1e-5, Beta: 0.99999}), Unit(Beta{Alpha: 2, Beta: 2})}, nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const median = 0.00427061388170488 // R 4.2.2 uniroot, above
+	for _, probs := range [][]float64{{0.5}, {0.25, 0.5, 0.75}, {0.05, 0.5, 0.95}} {
+		qs, err := p.QuantileSet(probs)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, q := range qs {
+			switch q.Prob {
+			case 0.5:
+				if math.Abs(q.Value/median-1) > 1e-9 || !q.Unique {
+					t.Errorf("asked with %v: median %v (unique %v), want %v", probs, q.Value, q.Unique, median)
+				}
+			case 0.25:
+				if q.Value != 0 {
+					t.Errorf("asked with %v: 25%% point %v, want 0", probs, q.Value)
+				}
+			}
+		}
+	}
+}

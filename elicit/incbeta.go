@@ -412,6 +412,13 @@ func (c *incBeta) density(x, y float64) float64 {
 // be split further, has I_x(a, b) nearer p; 0 or 1 when the quantile
 // lies beyond the last float64 before a bound.
 func (c *incBeta) nearerEnd(p, lo, hi float64) float64 {
+	halved := func(x float64) (float64, float64) {
+		l, u := c.tails(x, 1-x)
+		return l * math.Exp2(-c.a), u * math.Exp2(-c.b)
+	}
+	if end, ok := boundGapEnd(p, lo, hi, halved); ok {
+		return end
+	}
 	dist := func(x float64) float64 {
 		l, u := c.tails(x, 1-x)
 		if p > 0.5 {
@@ -423,6 +430,34 @@ func (c *incBeta) nearerEnd(p, lo, hi float64) float64 {
 		return lo
 	}
 	return hi
+}
+
+// boundGapEnd decides a quantile that lies in the last gap of float64s
+// before a bound, between 0 and the smallest double (5e-324) or between
+// 1 − 2⁻⁵³ and 1, by where it lies in x: the bound when the quantile is
+// nearer it than the float beside it. ok is false for any other bracket.
+// There the CDF is far from linear, so the nearer residual in p, which
+// nearerEnd takes elsewhere, picked 5e-324 for a median of about
+// 10^−30103 (Beta(1e-5, 0.99999)) and showed it as a number, where the
+// nearest double is 0 and the page says the point is beyond the double
+// range (found in review). Near 0 a Beta's CDF is C·xᵃ (DLMF 8.17.8's
+// leading term), so at hi/2 it is 2⁻ᵃ of its value at hi; near 1 its
+// upper tail at 1 − (1−lo)/2 is 2⁻ᵇ of its value at lo. halved gives
+// these, summed with the weights for a pool: when the lower one is at
+// least p, or the upper one at least 1 − p, the quantile lies in the half
+// of the gap beside the bound.
+func boundGapEnd(p, lo, hi float64, halved func(x float64) (lower, upper float64)) (float64, bool) {
+	switch {
+	case lo == 0 && hi == math.SmallestNonzeroFloat64:
+		if l, _ := halved(hi); l >= p {
+			return 0, true
+		}
+	case hi == 1 && lo == 1-0x1p-53:
+		if _, u := halved(lo); u >= 1-p {
+			return 1, true
+		}
+	}
+	return 0, false
 }
 
 // quantileFrom solves I_x(a, b) = p for x in (0, 1), 0 < p < 1, from an

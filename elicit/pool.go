@@ -549,11 +549,24 @@ func (p Pool) quantileIn(prob, lo, hi, x0 float64) (u, f, df, d2f float64) {
 }
 
 // nearerEnd is whichever of two adjacent floats lo < hi has the smaller
-// CDF residual, with its density and derivatives.
+// CDF residual, with its density and derivatives; the bound where the
+// quantile lies in the last gap before it and nearer the bound
+// (boundGapEnd).
 func (p Pool) nearerEnd(prob, lo, hi float64) (u, f, df, d2f float64) {
 	u = hi
 	if math.Abs(p.resid(lo, prob)) < math.Abs(p.resid(hi, prob)) {
 		u = lo
+	}
+	halved := func(x float64) (lower, upper float64) {
+		for i, c := range p.Components {
+			l, r := p.ib[i].tails(x, 1-x)
+			lower += c.Weight * l * math.Exp2(-p.ib[i].a)
+			upper += c.Weight * r * math.Exp2(-p.ib[i].b)
+		}
+		return lower, upper
+	}
+	if end, ok := boundGapEnd(prob, lo, hi, halved); ok {
+		u = end
 	}
 	f, df, d2f = p.unitDensity(u)
 	return u, f, df, d2f
@@ -574,13 +587,24 @@ func converged(a, b float64) bool {
 func bisect(lo, hi float64) float64 {
 	switch {
 	case lo > 0 && hi < 0.5 && hi > 16*lo:
-		return math.Sqrt(lo * hi)
+		// √lo·√hi, not √(lo·hi): with lo the smallest subnormal the
+		// product underflowed to 0, the bracket read as unsplittable,
+		// and a pool's median came back as 5e-324 (found in review).
+		return math.Sqrt(lo) * math.Sqrt(hi)
 	case lo == 0 && hi < 0.5:
-		return hi / 16
+		if m := hi / 16; m > 0 {
+			return m
+		}
+		// hi a few subnormals: the last step is to the smallest double,
+		// so that the bracket ends in the gap beside 0 (boundGapEnd).
+		return math.SmallestNonzeroFloat64
 	case hi < 1 && lo > 0.5 && (1-lo) > 16*(1-hi):
 		return 1 - math.Sqrt((1-lo)*(1-hi))
 	case hi == 1 && lo > 0.5:
-		return 1 - (1-lo)/16
+		if m := 1 - (1-lo)/16; m < 1 {
+			return m
+		}
+		return 1 - 0x1p-53 // the last double below 1, likewise
 	}
 	return 0.5 * (lo + hi)
 }

@@ -408,9 +408,11 @@ func TestPoolWithoutSingleBeta(t *testing.T) {
 
 // A pool of one expert is that expert's Beta, exactly and without a
 // warning that it is far from one, even Beta(5, 0.001), whose grid
-// quantiles crowd within an ulp of 1; its 95% point, 1 − 1.2e-1302
-// (ln = (ln 0.05 + ln 0.001 + lbeta(0.001, 5))/0.001, R 4.2.2's lbeta),
-// is written 1 and said to be.
+// quantiles crowd within an ulp of 1; its 5%, 50% and 95% points,
+// 1 − 6.6e-24, 1 − 1.2e-302 and 1 − 1.2e-1302 (ln(1 − x) = (ln(1 − p) +
+// ln 0.001 + lbeta(0.001, 5))/0.001, R 4.2.2's lbeta), are written 1 and
+// said to be (the 5% and 50% points had been written as the last double
+// below 1, without a word).
 func TestPoolOfOneBetaIsThatBeta(t *testing.T) {
 	code, out, errOut := runCLI(t, `{"experts":[{"alpha":5,"beta":0.001}]}`, "pool", "--format", "json")
 	if code != 0 {
@@ -422,7 +424,7 @@ func TestPoolOfOneBetaIsThatBeta(t *testing.T) {
 	}
 	decodeJSON(t, out, &got)
 	if got.Beta == nil || *got.Beta != (elicit.Beta{Alpha: 5, Beta: 0.001}) || len(got.Warnings) != 1 ||
-		!strings.HasPrefix(got.Warnings[0], "The pool's 95% point is about 1 − 1.2e-1302:") {
+		!strings.HasPrefix(got.Warnings[0], "The pool's 5% point is about 1 − 6.6e-24, and the pool's 50% point is about 1 − 1.2e-302, and the pool's 95% point is about 1 − 1.2e-1302:") {
 		t.Errorf("beta %v, warnings %q", got.Beta, got.Warnings)
 	}
 }

@@ -329,8 +329,8 @@ func TestFitPercentilesBeyondDouble(t *testing.T) {
 // TestPoolPointsBeyondDouble: `parley pool` of Beta(0.001, 0.001) and
 // Beta(0.002, 0.001) printed "quantile 0.05 0" and "quantile 0.95 1"
 // without a word, though the pool's points lie about 1.4e-748 above 0
-// and 1.1e-1067 below 1 (elicit.TestPoolPointsHeldAsABoundAreSaid, R
-// 4.2.2). The linear and the logarithmic pool now say so, with the
+// and 1.1e-1067 below 1, and its median 1.1e-67 below 1
+// (elicit.TestPoolPointsHeldAsABoundAreSaid, R 4.2.2). The linear and the logarithmic pool now say so, with the
 // distance, in the text and the JSON's warnings.
 func TestPoolPointsBeyondDouble(t *testing.T) {
 	in := `{"experts":[{"alpha":0.001,"beta":0.001},{"alpha":0.002,"beta":0.001}],"probs":[0.05,0.5,0.95]}`
@@ -339,7 +339,7 @@ func TestPoolPointsBeyondDouble(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errOut)
 	}
 	for _, want := range []string{"quantile 0.05     0 (nearer the bound than a double holds: see the warning below)",
-		"warning: The pool's 5% point is about 1.4e-748, and the pool's 95% point is about 1 − 1.1e-1067:"} {
+		"warning: The pool's 5% point is about 1.4e-748, and the pool's 50% point is about 1 − 1.1e-67, and the pool's 95% point is about 1 − 1.1e-1067:"} {
 		if !strings.Contains(out, want) {
 			t.Errorf("text lacks %q:\n%s", want, out)
 		}

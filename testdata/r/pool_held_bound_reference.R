@@ -24,3 +24,9 @@ cat(sprintf("B low: log10 u = %.6f\n", lu/log(10)))
 d1 <- exp(-log(0.001) - lbeta(0.001, 0.001)); d2 <- exp(-log(0.001) - lbeta(0.001, 0.002))
 lv <- 1000*log(0.05/(0.5*d1 + 0.5*d2))
 cat(sprintf("B high: log10 (1-u) = %.6f\n", lv/log(10)))
+# B's median lies in the upper spike too: 1 - u solves the same linear
+# equation with 0.5 for 0.05 (its nearest double is 1; Parley had shown
+# the last double below 1 until the quantile in that gap was decided by
+# where it lies in u).
+lm <- 1000*log(0.5/(0.5*d1 + 0.5*d2))
+cat(sprintf("B median: log10 (1-u) = %.6f\n", lm/log(10)))
