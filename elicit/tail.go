@@ -81,8 +81,29 @@ func (m TailMiss) Message(value string) string {
 	if m.Ratio < 1000 {
 		ratio = "about " + ratio
 	}
-	return "The fitted Beta puts " + ChanceText(m.Fitted) + " of the chance " + m.Side() + " " + value + ", where the expert put " + ChanceText(m.Stated) + ": " + ratio +
+	fitted, stated := m.Chances()
+	return "The fitted Beta puts " + fitted + " of the chance " + m.Side() + " " + value + ", where the expert put " + stated + ": " + ratio +
 		". Its probability gaps are small, but it does not match the expert's outer value; show the expert the fit."
+}
+
+// Chances writes the fitted and the stated tail chance (ChanceText); when
+// both are under one in a million, as figures ("1.0e-7"): "almost none"
+// beside "almost none" hid the two numbers the warning is about (found in
+// review, for a stated 1e-9).
+func (m TailMiss) Chances() (fitted, stated string) {
+	if m.Fitted < 1e-6 && m.Stated < 1e-6 {
+		return tinyChance(m.Fitted), tinyChance(m.Stated)
+	}
+	return ChanceText(m.Fitted), ChanceText(m.Stated)
+}
+
+// tinyChance writes a chance under one in a million in scientific
+// notation to two figures, "1.0e-7", and 0 as "0".
+func tinyChance(p float64) string {
+	if p <= 0 {
+		return "0"
+	}
+	return FormatExp(math.Log(p), 2)
 }
 
 // Side is "above" for the tail above the outer value and "below" for

@@ -4,6 +4,7 @@ import (
 	"math"
 	"regexp"
 	"strconv"
+	"strings"
 	"testing"
 
 	"gonum.org/v1/gonum/stat/distuv"
@@ -132,5 +133,22 @@ func TestTailMissWords(t *testing.T) {
 	}
 	if ChanceText(4e-7) != "almost none (under 0.0001%)" || ChanceText(0.00227) != "0.227%" || ChanceText(0.05) != "5%" {
 		t.Errorf("chances: %q %q %q", ChanceText(4e-7), ChanceText(0.00227), ChanceText(0.05))
+	}
+}
+
+// TestTailMissTinyChancesAreFigures: a stated probability may be as small
+// as 1e-12, so both chances of a tail miss can be under one in a million;
+// the warning then gives both as figures, where it read "puts almost none
+// (under 0.0001%) … where the expert put almost none (under 0.0001%):
+// about 100 times more" (found in review). One tiny chance beside a
+// larger one keeps "almost none".
+func TestTailMissTinyChancesAreFigures(t *testing.T) {
+	m := TailMiss{Value: 2.182e-05, Stated: 1e-9, Fitted: 1.02e-7, Ratio: 102}
+	if got := m.Message("2.182e-05"); !strings.Contains(got, "puts 1.0e-7 of the chance below 2.182e-05, where the expert put 1.0e-9: about 102 times more") {
+		t.Errorf("both tiny: %q", got)
+	}
+	m = TailMiss{Value: 0.3, Above: true, Stated: 0.05, Fitted: 4e-7, Ratio: 125000}
+	if got := m.Message("0.3"); !strings.Contains(got, "puts almost none (under 0.0001%) of the chance above 0.3, where the expert put 5%") {
+		t.Errorf("one tiny: %q", got)
 	}
 }

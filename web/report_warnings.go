@@ -93,8 +93,9 @@ func (g *warningGroup) add(expert string, f *record.Fit, w record.Warning, outer
 	switch elicit.WarningCode(w.Code) {
 	case elicit.WarnTailMisfit:
 		if m := w.Tail; m != nil {
+			fitted, stated := m.Chances()
 			g.Tails = append(g.Tails, tailRow{Expert: expert, Outer: m.Side() + " " + outer(m.Value),
-				Stated: elicit.ChanceText(m.Stated), Fitted: elicit.ChanceText(m.Fitted), Ratio: m.RatioText()})
+				Stated: stated, Fitted: fitted, Ratio: m.RatioText()})
 			return
 		}
 	case elicit.WarnPoorFit:
