@@ -70,6 +70,9 @@ func (j Judgement) Validate() error {
 func checkValues(field string, xs []float64, lower, upper float64, offset int) error {
 	w := upper - lower
 	for i, x := range xs {
+		if valueOK(xs, i, lower, upper, w) {
+			continue // the common case: no field name written
+		}
 		f := fmt.Sprintf("%s[%d]", field, i+offset)
 		if math.IsNaN(x) || math.IsInf(x, 0) {
 			return inputErr(f, RuleFinite, "got %v", x)
@@ -94,6 +97,25 @@ func checkValues(field string, xs []float64, lower, upper float64, offset int) e
 	return nil
 }
 
+// valueOK reports whether xs[i] passes every rule of checkValues, which
+// writes the field's name only for a value that does not: the names had
+// cost a twentieth of a fit.
+func valueOK(xs []float64, i int, lower, upper, w float64) bool {
+	x := xs[i]
+	if math.IsNaN(x) || math.IsInf(x, 0) || !(x > lower && x < upper) || (i > 0 && !(x > xs[i-1])) ||
+		shortOf(x-lower, MinBoundGap*w, x, lower) || shortOf(upper-x, MinBoundGap*w, x, upper) {
+		return false
+	}
+	if i > 0 {
+		prev := xs[i-1]
+		near := math.Min(math.Min(prev-lower, upper-prev), math.Min(x-lower, upper-x))
+		if shortOf(x-prev, MinValueGap*near, x, prev) {
+			return false
+		}
+	}
+	return true
+}
+
 // shortOf reports whether gap, the float64 difference of a and b, falls
 // short of limit by more than the rounding of a and b themselves (half a
 // unit in the last place each, so two machine epsilons of the larger;
@@ -112,6 +134,9 @@ func shortOf(gap, limit, a, b float64) bool {
 // one place probabilities are checked.
 func CheckProbs(field string, ps []float64) error {
 	for i, p := range ps {
+		if checkProb("", p) == nil && (i == 0 || p > ps[i-1]) {
+			continue // the common case: no field name written
+		}
 		f := fmt.Sprintf("%s[%d]", field, i)
 		if err := checkProb(f, p); err != nil {
 			return err
