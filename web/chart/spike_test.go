@@ -9,13 +9,11 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 )
 
-// One very sure expert (invented: Beta(300, 10000), a spike near 0.029)
-// beside three ordinary ones and their pool: the density axis stops at
-// four times the experts' median top, though never below the pool's, so
-// the others are not flattened into the baseline; the spike is cut there,
-// drawn inside the plot, and the note names it. A panel without a spike
-// keeps its tallest top.
-func TestOneSpikeDoesNotFlattenThePanel(t *testing.T) {
+// spikePanel is one very sure expert, Expert A (invented: Beta(300,
+// 10000)), beside three ordinary ones and their equal-weight pool: the
+// experts' Betas and the curves to draw.
+func spikePanel(t *testing.T) ([]elicit.ScaledBeta, []Curve) {
+	t.Helper()
 	ds := []elicit.ScaledBeta{sbeta(300, 10000, 0, 1), sbeta(4, 60, 0, 1), sbeta(5, 70, 0, 1), sbeta(3, 50, 0, 1)}
 	p, err := elicit.LinearPool(ds, []float64{1, 1, 1, 1})
 	if err != nil {
@@ -24,6 +22,17 @@ func TestOneSpikeDoesNotFlattenThePanel(t *testing.T) {
 	curves := []Curve{{Label: "Expert A", Role: RoleExpert, Dist: ds[0]}, {Label: "Expert B", Role: RoleExpert, Dist: ds[1]},
 		{Label: "Expert C", Role: RoleExpert, Dist: ds[2]}, {Label: "Expert D", Role: RoleExpert, Dist: ds[3]},
 		{Label: "Equal-weight pool", Role: RolePool, Dist: Pool{Pool: p}}}
+	return ds, curves
+}
+
+// One very sure expert (invented: Beta(300, 10000), a spike near 0.029)
+// beside three ordinary ones and their pool: the density axis stops at
+// four times the experts' median top, though never below the pool's, so
+// the others are not flattened into the baseline; the spike is cut there,
+// drawn inside the plot, and the note names it. A panel without a spike
+// keeps its tallest top.
+func TestOneSpikeDoesNotFlattenThePanel(t *testing.T) {
+	ds, curves := spikePanel(t)
 	spike := smoothTop(ds[0])
 	for _, lay := range layouts {
 		g := newTwin(lay, "share", "", 0, 1, curves, nil, false)
@@ -146,14 +155,7 @@ func TestThePolylineReachesAModeBetweenGridPoints(t *testing.T) {
 // TestOneSpikeDoesNotFlattenThePanel, whose pool is cut with the spike
 // (its top is measured on its own window, densityCap).
 func TestCutNoteNamesThePanelsCurvesInProse(t *testing.T) {
-	ds := []elicit.ScaledBeta{sbeta(300, 10000, 0, 1), sbeta(4, 60, 0, 1), sbeta(5, 70, 0, 1), sbeta(3, 50, 0, 1)}
-	p, err := elicit.LinearPool(ds, []float64{1, 1, 1, 1})
-	if err != nil {
-		t.Fatal(err)
-	}
-	curves := []Curve{{Label: "Expert A", Role: RoleExpert, Dist: ds[0]}, {Label: "Expert B", Role: RoleExpert, Dist: ds[1]},
-		{Label: "Expert C", Role: RoleExpert, Dist: ds[2]}, {Label: "Expert D", Role: RoleExpert, Dist: ds[3]},
-		{Label: "Equal-weight pool", Role: RolePool, Dist: Pool{Pool: p}}}
+	_, curves := spikePanel(t)
 	for _, lay := range layouts {
 		g := newTwin(lay, "share", "", 0, 1, curves, nil, false)
 		if notes := strings.Join(g.Notes, " "); !strings.Contains(notes, "for Expert A and the equal-weight pool.") {
