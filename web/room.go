@@ -241,6 +241,21 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	return nil
 }
 
+// shownWords, fingerprintLead and fingerprintNote are sentences of the
+// room's header (room.templ), which the reasons display also counts the
+// lines of (layOutReasons).
+func (v roomView) shownWords() string {
+	return "Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
+}
+
+func (v roomView) fingerprintLead() string {
+	return "Record fingerprint after round " + strconv.Itoa(v.Through) + " closed:"
+}
+
+func (v roomView) fingerprintNote() string {
+	return "Note it: a later copy of the record must show this same value for round " + strconv.Itoa(v.Through) + "'s close."
+}
+
 // roomQuery reads the room view's address: ?show=reasons for the reasons
 // display, and &page=N (from 1) for its pages; anything else is refused
 // in words naming the field.
@@ -307,9 +322,10 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 		v.Prev, v.PrevWords = room, "← back to the picture"
 		return
 	}
+	// The header's text as room.templ writes it, for its lines.
 	state := v.State
 	if v.Through > 0 && !v.Held {
-		state += " Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
+		state += " " + v.shownWords()
 	}
 	state += " " + v.Progress
 	if v.Truth != "" {
@@ -317,8 +333,7 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 	}
 	fp := ""
 	if v.Fingerprint != "" {
-		n := strconv.Itoa(v.Through)
-		fp = "Record fingerprint after round " + n + " closed: " + v.Fingerprint + " Note it: a later copy of the record must show this same value for round " + n + "'s close."
+		fp = v.fingerprintLead() + " " + v.Fingerprint + " " + v.fingerprintNote()
 	}
 	pages := pagesOfReasons(v.Reasons, pageLines([]string{wording, state, fp}))
 	if page > len(pages) {

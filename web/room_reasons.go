@@ -234,7 +234,7 @@ func pagesOfReasons(reasons []feedbackReason, column float64) []reasonsScreen {
 	for i, r := range reasons {
 		p := reasonPiece{N: i + 1, Label: r.Label, Text: r.Reason}
 		for {
-			n := float64(textLines(p.Text, pageColumnEm, chart.TextEm(p.Label+": ", true), false))
+			n := float64(reasonLines(feedbackReason{Label: p.Label, Reason: p.Text}, pageColumnEm))
 			if n <= column {
 				// Whole in one column: this one, or the next.
 				if used+n > column && used > 0 {

@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"html"
 	"net/url"
 	"regexp"
 	"strings"
@@ -71,7 +72,7 @@ func TestRoomFingerprintNoteNamesTheRound(t *testing.T) {
 	_, body := h.get(roomPath(ws.ID, qs[0].ID))
 	m := regexp.MustCompile(`(?s)<span class="room-fingerprint-note">(.*?)</span>`).FindStringSubmatch(body)
 	want := "Note it: a later copy of the record must show this same value for round 1's close."
-	if m == nil || strings.Join(strings.Fields(m[1]), " ") != want {
+	if m == nil || strings.Join(strings.Fields(html.UnescapeString(m[1])), " ") != want {
 		t.Errorf("the room's fingerprint note reads %q, want %q", m, want)
 	}
 }
