@@ -408,6 +408,17 @@ func (c *incBeta) density(x, y float64) float64 {
 	return math.Exp(c.lnPower(x, y) - logX(x, y) - logX(y, x))
 }
 
+// densityK is the density at x from the prefactor k that tailsK
+// returned there, K/(x·y), unless K is so small (or x·y so near a
+// bound) that the quotient would lose digits, when density forms it
+// afresh in logs.
+func (c *incBeta) densityK(x, y, k float64) float64 {
+	if xy := x * y; k > 0x1p-900 && xy > 0x1p-900 {
+		return k / xy
+	}
+	return c.density(x, y)
+}
+
 // nearerEnd is whichever of lo < hi, the ends of a bracket that cannot
 // be split further, has I_x(a, b) nearer p; 0 or 1 when the quantile
 // lies beyond the last float64 before a bound.
@@ -495,7 +506,7 @@ func (c *incBeta) quantileWithin(p, x0, halleyAccept float64) float64 {
 	}
 	for iter := 0; iter < 400; iter++ {
 		y := 1 - x
-		l, u := c.tails(x, y)
+		l, u, k := c.tailsK(x, y)
 		var g, t float64
 		if upper {
 			t, g = u, lnq-math.Log(u)
@@ -511,7 +522,7 @@ func (c *incBeta) quantileWithin(p, x0, halleyAccept float64) float64 {
 			return x
 		}
 		next := math.NaN()
-		if f := c.density(x, y); t > 0 && f > 0 && !math.IsInf(g, 0) && !math.IsInf(f, 0) {
+		if f := c.densityK(x, y, k); t > 0 && f > 0 && !math.IsInf(g, 0) && !math.IsInf(f, 0) {
 			// Halley's step on g: with g′ = f/tail and c₁ = f′/f =
 			// (a−1)/x − (b−1)/(1−x), g″ = g′(c₁ ∓ g′) (− in the lower
 			// tail, + in the upper); plain Newton when the correction is
