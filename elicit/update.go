@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"sort"
 )
 
 // MaxPredictiveTrials is the largest planned number of trials for which
@@ -182,6 +183,47 @@ func HDINote(d Beta, lo, hi float64, name string) string {
 			"is closer to 1 than the computer can show and is shown as 1; report the equal-tailed interval where an upper limit below 1 is wanted", name, ShapeText(b))
 	}
 	return ""
+}
+
+// IntervalsBeyondDouble says which ends of d's equal-tailed interval eq
+// and highest-density interval hdi at level (EqualTailed's and HDI's)
+// are quantiles nearer a bound than a double holds, so that the double
+// written is the bound itself, and how far from the bound each really
+// lies, in the words of WarnBeyondDouble; "" when none is. For
+// Beta(1e-5, 0.99999) the 95% equal-tailed interval is written [0, 0],
+// its ends lying about 1e-1100 and 1e-5 above 0 — as 0, with no word, it
+// read as a posterior certain of 0 (found in review). An HDI end that is
+// a bound by the density's shape (a J-shaped density's 0 or 1) is no
+// quantile and is left to HDINote, as is an end solved from the equal
+// density condition. inEq and inHDI say whether an end of eq, or of
+// hdi, is among them.
+func IntervalsBeyondDouble(d Beta, level float64, eq, hdi [2]float64) (m string, inEq, inHDI bool) {
+	if d.Validate() != nil || checkLevel(level) != nil {
+		return "", false, false
+	}
+	held := func(s ShownPoint) bool { return s.X == 0 || s.X == 1 }
+	tail := (1 - level) / 2
+	shown := []ShownPoint{{P: tail, X: eq[0]}, {P: 1 - tail, X: eq[1]}}
+	inEq = held(shown[0]) || held(shown[1])
+	var end *ShownPoint
+	a, b := d.Alpha, d.Beta
+	switch {
+	case a == 1 && b == 1:
+	case a <= 1 && b >= 1, a < 1 && b < 1 && hdi[0] == 0:
+		end = &ShownPoint{P: level, X: hdi[1]}
+	case b <= 1 && a >= 1, a < 1 && b < 1:
+		end = &ShownPoint{P: 1 - level, X: hdi[0]}
+	}
+	if end != nil {
+		shown = append(shown, *end)
+		inHDI = held(*end)
+	}
+	sort.SliceStable(shown, func(i, j int) bool { return shown[i].P < shown[j].P })
+	m, ok := beyondDouble(Unit(d), shown, "the ")
+	if !ok {
+		return "", false, false
+	}
+	return m, inEq, inHDI
 }
 
 // hdiInterior solves g(t) = log f(Q(t + level)) − log f(Q(t)) = 0 for the

@@ -525,3 +525,46 @@ func TestMoreSuccessesThanTrialsSaysSoInWords(t *testing.T) {
 		}
 	}
 }
+
+// TestIntervalsBeyondDouble: the 95% intervals of Beta(1e-5, 0.99999)
+// are written [0, 0], and the warning gives where their ends lie. Source
+// of the values: R 4.2.2, the leading term of I_x at 0 (DLMF 8.17.8),
+// log10 x = (log(p) + log(a) + lbeta(a, b))/a/log(10): -160206.0 (2.5%),
+// -2227.64 (95%, the HDI's upper end of this J-shaped Beta), -1099.54
+// (97.5%), that is 1.0e-160206, 2.3e-2228 and 2.9e-1100.
+func TestIntervalsBeyondDouble(t *testing.T) {
+	d := Beta{Alpha: 1e-5, Beta: 0.99999}
+	lo, hi, err := EqualTailed(d, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	hlo, hhi, err := HDI(d, 0.95)
+	if err != nil {
+		t.Fatal(err)
+	}
+	m, inEq, inHDI := IntervalsBeyondDouble(d, 0.95, [2]float64{lo, hi}, [2]float64{hlo, hhi})
+	for _, want := range []string{"The 2.5% point is about 1.0e-160206", "the 95% point is about 2.3e-2228", "the 97.5% point is about 2.9e-1100", "each is shown as its bound"} {
+		if !strings.Contains(m, want) {
+			t.Errorf("message %q lacks %q", m, want)
+		}
+	}
+	if !inEq || !inHDI {
+		t.Errorf("inEq %v, inHDI %v: both intervals have an end held as 0", inEq, inHDI)
+	}
+	// A J-shaped posterior whose HDI starts at 0 by its shape, with ends
+	// a double holds: nothing to say (HDINote says the rest).
+	for _, d := range []Beta{{Alpha: 0.5, Beta: 13}, {Alpha: 2, Beta: 30}, {Alpha: 30, Beta: 0.5}, {Alpha: 1, Beta: 1}} {
+		lo, hi, _ := EqualTailed(d, 0.95)
+		hlo, hhi, _ := HDI(d, 0.95)
+		if m, a, b := IntervalsBeyondDouble(d, 0.95, [2]float64{lo, hi}, [2]float64{hlo, hhi}); m != "" || a || b {
+			t.Errorf("%v: %q %v %v, want nothing", d, m, a, b)
+		}
+	}
+	// The mirror image: Beta(0.99999, 1e-5)'s ends are held as 1.
+	d = Beta{Alpha: 0.99999, Beta: 1e-5}
+	lo, hi, _ = EqualTailed(d, 0.95)
+	hlo, hhi, _ = HDI(d, 0.95)
+	if m, _, _ := IntervalsBeyondDouble(d, 0.95, [2]float64{lo, hi}, [2]float64{hlo, hhi}); !strings.Contains(m, "The 2.5% point is about 1 − 2.9e-1100") {
+		t.Errorf("mirror: %q", m)
+	}
+}

@@ -968,3 +968,32 @@ func agreeSample(t *testing.T, h *harness, qid int64, successes, trials float64,
 		t.Fatal(err)
 	}
 }
+
+// A posterior whose interval ends lie nearer 0 than a double holds
+// (Beta(1e-5, 20.99999) after 0 of 20 under the prior Beta(1e-5,
+// 0.99999)) is written [0, 0] on the study page and in the report, with
+// the warning that says where the ends really lie; it showed [0, 0]
+// alone, which reads as a posterior certain of 0.
+func TestStudySaysAnIntervalEndHeldAsABound(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"20"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 1e-5, Beta: 0.99999}, "Invented: a prior with nearly all its weight at 0.")
+	// The 2.5% point of Beta(1e-5, 20.99999) is about 10^-160,209 (the
+	// leading term, ln x = (ln p + ln α + ln B(α, β))/α: DLMF 8.17.8).
+	const note = "The 2.5% point is about"
+	_, page := h.get(sp)
+	// The prior's own 5% and 95% points, "90% between 0 and 0", are
+	// said too (the 5% point about 10^-130,000 by the same leading term).
+	if !strings.Contains(html.UnescapeString(page), "The 5% point is about") {
+		t.Errorf("the study page's agreed prior Beta(1e-5, 0.99999) does not say its 90%% range is held as 0")
+	}
+	if !strings.Contains(html.UnescapeString(page), note) || !strings.Contains(page, "nearer the bound than the computer") {
+		t.Errorf("the study page of posterior Beta(1e-5, 20.99999) does not say its interval's ends are held as 0")
+	}
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(html.UnescapeString(report), note) {
+		t.Errorf("the report of posterior Beta(1e-5, 20.99999) does not say its interval's ends are held as 0")
+	}
+}

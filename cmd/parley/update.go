@@ -35,7 +35,22 @@ type updateOutput struct {
 	// null, with a warning, when trials exceed elicit.MaxPredictiveTrials.
 	Conflict *elicit.Conflict `json:"prior_data_conflict"`
 	Warnings []string         `json:"warnings"`
-	Caution  string           `json:"caution"`
+	// WarningCode is each warning's code, in the order of Warnings, as
+	// `parley prior` and `parley fit` give them: conflict_unchecked,
+	// hdi_shape (elicit.HDINote) or beyond_double (an interval's end
+	// written as the bound it lies a hair inside).
+	WarningCode []string `json:"warning_codes"`
+	Caution     string   `json:"caution"`
+	// heldEq and heldHDI: an end of the interval, or of the HDI, is
+	// written as the bound it lies a hair inside (the text says so on
+	// its line).
+	heldEq, heldHDI bool
+}
+
+// warn adds a warning with its code.
+func (o *updateOutput) warn(code, message string) {
+	o.Warnings = append(o.Warnings, message)
+	o.WarningCode = append(o.WarningCode, code)
 }
 
 func runUpdate(args []string, _ io.Reader, stdout, stderr io.Writer) int {
@@ -99,7 +114,7 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 		Prior: prior, Successes: s, Trials: n, Level: level,
 		Alpha: post.Alpha, Beta: post.Beta, Mean: post.Mean(), SD: post.SD(),
 		Interval: up.Interval, HDI: up.HDI, Caution: cautionJSON,
-		Warnings: []string{},
+		Warnings: []string{}, WarningCode: []string{},
 	}
 	if n <= elicit.MaxPredictiveTrials {
 		c, err := elicit.ConflictCheck(prior, s, n)
@@ -108,10 +123,14 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 		}
 		out.Conflict = &c
 	} else {
-		out.Warnings = append(out.Warnings, fmt.Sprintf("prior-data conflict not checked: more than %d trials", elicit.MaxPredictiveTrials))
+		out.warn("conflict_unchecked", fmt.Sprintf("prior-data conflict not checked: more than %d trials", elicit.MaxPredictiveTrials))
 	}
 	if note := elicit.HDINote(post, hlo, hhi, "the posterior"); note != "" {
-		out.Warnings = append(out.Warnings, note)
+		out.warn("hdi_shape", note)
+	}
+	if note, eq, hdi := elicit.IntervalsBeyondDouble(post, level, up.Interval, up.HDI); note != "" {
+		out.warn(string(elicit.WarnBeyondDouble), note)
+		out.heldEq, out.heldHDI = eq, hdi
 	}
 	nums := []float64{out.Alpha, out.Beta, out.Mean, out.SD, lo, hi, hlo, hhi}
 	if out.Conflict != nil {
@@ -129,8 +148,14 @@ func writeUpdateText(w io.Writer, o updateOutput) error {
 	fmt.Fprintf(&b, "prior Beta(%s, %s), data %s in %s\n", shape(o.Prior.Alpha), shape(o.Prior.Beta), countOf(o.Successes, "success", "successes"), countOf(o.Trials, "trial", "trials"))
 	in := func(x float64) string { return within(x, 0, 1) }
 	fmt.Fprintf(&b, "posterior Beta(%s, %s): mean %s, sd %.6g\n", shape(o.Alpha), shape(o.Beta), in(o.Mean), o.SD)
-	fmt.Fprintf(&b, "%s%% equal-tailed interval [%s, %s]\n", pct, in(o.Interval[0]), in(o.Interval[1]))
-	fmt.Fprintf(&b, "%s%% highest-density interval [%s, %s]\n", pct, in(o.HDI[0]), in(o.HDI[1]))
+	note := func(held bool) string {
+		if held {
+			return beyondNote([]string{string(elicit.WarnBeyondDouble)})
+		}
+		return ""
+	}
+	fmt.Fprintf(&b, "%s%% equal-tailed interval [%s, %s]%s\n", pct, in(o.Interval[0]), in(o.Interval[1]), note(o.heldEq))
+	fmt.Fprintf(&b, "%s%% highest-density interval [%s, %s]%s\n", pct, in(o.HDI[0]), in(o.HDI[1]), note(o.heldHDI))
 	if c := o.Conflict; c != nil {
 		fmt.Fprintf(&b, "prior predictive check: %s\n", c)
 	}

@@ -1,7 +1,10 @@
 package main
 
 import (
+	"encoding/json"
+	"slices"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -44,3 +47,36 @@ func TestUpdateAgreesWithTheStudyPage(t *testing.T) {
 }
 
 func itoa(n int) string { return strconv.Itoa(n) }
+
+// `parley update` under Beta(1e-5, 0.99999) writes its 95% intervals as
+// [0, 0]; it says, on both lines and in a warning with the code
+// beyond_double, that their ends lie a hair above 0, and where (the
+// values are elicit's TestIntervalsBeyondDouble's, from R). It wrote
+// [0, 0] with no word, where `parley prior` and `parley fit` say so.
+func TestUpdateSaysAnIntervalEndHeldAsABound(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "update", "--alpha", "1e-5", "--beta", "0.99999", "--successes", "0", "--trials", "0")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	for _, want := range []string{
+		"95% equal-tailed interval [0, 0] (a point nearer its bound than a double holds",
+		"95% highest-density interval [0, 0] (a point nearer its bound than a double holds",
+		"the 97.5% point is about 2.9e-1100",
+	} {
+		if !strings.Contains(out, want) {
+			t.Errorf("output lacks %q:\n%s", want, out)
+		}
+	}
+	var got updateOutput
+	code, out, _ = runCLI(t, "", "update", "--alpha", "1e-5", "--beta", "0.99999", "--successes", "0", "--trials", "10", "--format", "json")
+	if code != 0 || json.Unmarshal([]byte(out), &got) != nil {
+		t.Fatalf("exit %d: %s", code, out)
+	}
+	if len(got.WarningCode) != len(got.Warnings) || !slices.Contains(got.WarningCode, "beyond_double") || !slices.Contains(got.WarningCode, "hdi_shape") {
+		t.Errorf("warning_codes %q for warnings %q", got.WarningCode, got.Warnings)
+	}
+	// An ordinary update says nothing of the kind, on neither line.
+	if _, out, _ := runCLI(t, "", "update", "--alpha", "0.5", "--beta", "3", "--successes", "0", "--trials", "10"); strings.Contains(out, "nearer its bound") {
+		t.Errorf("Beta(0.5, 13)'s intervals are said to be held as a bound:\n%s", out)
+	}
+}

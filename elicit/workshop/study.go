@@ -237,6 +237,14 @@ func StudyUpdate(q Question, p AgreedPrior, data []StudyData) (Update, error) {
 		Conflict: c, Reading: ConflictReading(c), BatchesBeforePrior: batchesBefore(data, q.ID, p.At)}, nil
 }
 
+// BeyondDouble says which ends of the posterior's intervals are written
+// as a bound they lie a hair inside (elicit.IntervalsBeyondDouble); ""
+// when none is.
+func (u Update) BeyondDouble() string {
+	m, _, _ := elicit.IntervalsBeyondDouble(u.Posterior, u.Level, u.Interval, u.HDI)
+	return m
+}
+
 // batchesBefore counts question q's batches recorded before at.
 func batchesBefore(data []StudyData, q int64, at time.Time) int {
 	n := 0
