@@ -154,6 +154,9 @@ func TestWhole(t *testing.T) {
 		{"0", 0, ""},
 		{"", 0, elicit.RuleRequired},
 		{"-1", 0, elicit.RuleCountRange}, // a whole number, below the range: "must be a whole number" misled
+		{"-0", 0, ""},                    // zero: it was refused as "0 to 1000, got -0"
+		{"-000", 0, ""},
+		{"-01", 0, elicit.RuleCountRange},
 		{"-", 0, elicit.RuleInteger},
 		{"-1.5", 0, elicit.RuleInteger},
 		{"+3", 0, elicit.RuleInteger},

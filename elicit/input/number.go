@@ -119,9 +119,15 @@ func Whole(field, raw string, min, max int) (int, error) {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleRequired}
 	}
 	if digits, neg := strings.CutPrefix(s, "-"); neg && digits != "" && strings.TrimLeft(digits, "0123456789") == "" {
-		// −1 is a whole number, so "must be a whole number" would
-		// mislead: it is below the range.
-		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, Clip(s, 24))}
+		if strings.TrimLeft(digits, "0") == "" {
+			// −0 is 0: refusing it as "0 to 1000000, got -0" named a
+			// value inside the range it gave.
+			s = digits
+		} else {
+			// −1 is a whole number, so "must be a whole number" would
+			// mislead: it is below the range.
+			return 0, &elicit.InputError{Field: field, Rule: elicit.RuleCountRange, Detail: fmt.Sprintf("%d to %d, got %s", min, max, Clip(s, 24))}
+		}
 	}
 	if strings.TrimLeft(s, "0123456789") != "" {
 		return 0, &elicit.InputError{Field: field, Rule: elicit.RuleInteger, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
