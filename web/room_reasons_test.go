@@ -198,6 +198,12 @@ func readReasonsPages(t *testing.T, h *harness, room string) ([]string, int) {
 		if !strings.Contains(body, `<a id="room-picture-link" href="`+room+`">back to the picture</a>`) {
 			t.Errorf("%s does not lead back to the picture", path)
 		}
+		// Nothing leads out of the room views (roomLink).
+		for _, m := range regexp.MustCompile(`href="([^"]+)"`).FindAllStringSubmatch(body, -1) {
+			if !roomLink.MatchString(html.UnescapeString(m[1])) && !strings.HasPrefix(m[1], "/static/") && !strings.HasPrefix(m[1], "#") {
+				t.Errorf("%s links to %s", path, m[1])
+			}
+		}
 		items := reasonItem.FindAllStringSubmatch(body, -1)
 		if len(items) == 0 {
 			t.Fatalf("%s shows no reason", path)

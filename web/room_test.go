@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"html"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -69,9 +70,10 @@ func TestRoomViewShowsTheFeedbackAnonymously(t *testing.T) {
 		if strings.Contains(strings.ToLower(body), "calibration") {
 			t.Errorf("room %d says which questions are calibration questions", i)
 		}
-		// Its only links are the neighbouring room views.
+		// Its only links are room views: the neighbours', and its own
+		// reasons display (?show=reasons, a page of it).
 		for _, m := range regexp.MustCompile(`href="([^"]+)"`).FindAllStringSubmatch(body, -1) {
-			if !strings.HasSuffix(m[1], "/room") && !strings.HasPrefix(m[1], "/static/") && !strings.HasPrefix(m[1], "#") {
+			if !roomLink.MatchString(html.UnescapeString(m[1])) && !strings.HasPrefix(m[1], "/static/") && !strings.HasPrefix(m[1], "#") {
 				t.Errorf("room %d links to %s", i, m[1])
 			}
 		}
@@ -237,3 +239,7 @@ func TestReasonsInFeedbackAndWithheld(t *testing.T) {
 		t.Error("the decision log does not say whose reason was shown again")
 	}
 }
+
+// roomLink is an address the room view may link to: a question's room
+// view, or a page of its reasons display.
+var roomLink = regexp.MustCompile(`/q/\d+/room(\?show=reasons(&page=\d+)?)?$`)
