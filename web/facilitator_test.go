@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -773,5 +774,16 @@ func TestDefaultBinsOnBoundsFarFromZero(t *testing.T) {
 	q := all[len(all)-1]
 	if got := fmt.Sprint(q.BinEdges); got != "[1000 1000.125 1000.25 1000.375 1000.5 1000.625 1000.75 1000.875 1001]" {
 		t.Errorf("bins stored as %s", got)
+	}
+}
+
+// The agreed prior's summary on the question's panel reads "Beta(2.951,
+// 55.56) on [0, 1] — …": a Go block between the bold Beta and the words
+// after it had swallowed the space, "Beta(2.951, 55.56)on [0, 1]".
+func TestAgreedSummaryKeepsItsSpaces(t *testing.T) {
+	q := workshop.Question{ID: 1, Position: 1, Quantity: "invented share", Lower: 0, Upper: 1}
+	html := renderText(t, agreedSummary(q, workshop.AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 2.951, Beta: 55.56}), Round: 1}))
+	if !regexp.MustCompile(`Beta\(2\.951, 55\.56\)</strong>\s+on \[0, 1\]`).MatchString(html) {
+		t.Errorf("the agreed prior's summary runs the Beta into its scale:\n%s", html)
 	}
 }
