@@ -589,6 +589,11 @@ func TestPriorFixesTheQuestionsScale(t *testing.T) {
 	if !strings.Contains(page, "A prior has been agreed for this question, so its bounds, format, probabilities") || strings.Contains(page, `name="upper"`) {
 		t.Error("the correction form under a prior offers the bounds, or does not say why it does not")
 	}
+	// The panel's link to the form says so too (it said only "Before
+	// anyone answers, every part can be corrected").
+	if _, panel := h.get(questionPath(ws.ID, quick.ID)); !strings.Contains(panel, "Until someone answers or a prior is agreed, every part can be corrected") {
+		t.Error("the question's panel does not say that an agreed prior, as well as answers, limits what a correction may change")
+	}
 	before := h.counts(ws.ID)
 	if r, body := correct(quick, func(f url.Values) { f.Set("upper", "200") }); r.StatusCode != http.StatusUnprocessableEntity ||
 		!strings.Contains(body, "Upper bound: "+string(workshop.RuleLockedAfterPrior)) || h.counts(ws.ID) != before {
