@@ -362,3 +362,53 @@ func TestFewReasonsStayBesideThePicture(t *testing.T) {
 		shots.take(fac, "room-reasons-beside-"+strconv.FormatInt(w, 10))
 	}
 }
+
+// TestLongWordingKeepsTheSideOnScreen: a panel of twenty under a wording
+// of two lines or more. The side column ran past the screen's foot at
+// 1280×720: by 12 px under two lines (the count of reasons and its link
+// cut in half), 38 px under three, 74 px under six. Now the side's rows
+// close up, and a wording longer than three lines of the title type is
+// set smaller (wordingType): the side column ends on the screen, the
+// wording is whole above the picture, and its type is no smaller than
+// the side table's.
+func TestLongWordingKeepsTheSideOnScreen(t *testing.T) {
+	s := startSite(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	shots := newScreenshots(t)
+	const sentence = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year? "
+	for _, repeat := range []int{1, 2, 3, 5} {
+		ws, q := largePanelWith(t, s, 20, func(q *workshop.Question) { q.Wording = strings.TrimSpace(strings.Repeat(sentence, repeat)) })
+		if err := s.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+			t.Fatal(err)
+		}
+		room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+		for _, sz := range [][2]int64{{1280, 720}, {1366, 768}} {
+			screen := fmt.Sprintf("%d×%d, %d characters of wording", sz[0], sz[1], len(q.Wording))
+			fac.viewport(sz[0], sz[1], false)
+			if st := fac.open(room); st != http.StatusOK {
+				t.Fatalf("%s: room view: %d", screen, st)
+			}
+			sideEnds(t, fac, screen)
+			type head struct {
+				Bottom, SideTop, Size, TableSize float64
+				Text                             string
+			}
+			h := eval[head](fac, "the wording", `(() => {
+				const q = document.querySelector(".room-question"), side = document.querySelector(".room-side");
+				return {bottom: q.getBoundingClientRect().bottom, sideTop: side.getBoundingClientRect().top,
+					size: parseFloat(getComputedStyle(q).fontSize),
+					tableSize: parseFloat(getComputedStyle(document.querySelector(".room-side .chart-table")).fontSize),
+					text: q.innerText};
+			})()`)
+			if !strings.Contains(h.Text, strings.TrimSpace(sentence)) || h.Bottom > h.SideTop {
+				t.Errorf("%s: the wording is not whole above the picture (ends at %.0f px, the side starts at %.0f)", screen, h.Bottom, h.SideTop)
+			}
+			if h.Size < h.TableSize-0.01 {
+				t.Errorf("%s: the wording is set in %.1f px, smaller than the side table's %.1f px", screen, h.Size, h.TableSize)
+			}
+			shots.take(fac, fmt.Sprintf("room-long-wording-%d-%d", repeat, sz[0]))
+		}
+	}
+}

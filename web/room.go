@@ -296,6 +296,18 @@ func reasonsPath(room string, n int) string {
 	return p
 }
 
+// wording is the question's wording as the room's header writes it.
+func (v roomView) wording() string {
+	return "Q" + strconv.Itoa(v.Question.Position) + ": " + v.Question.Wording
+}
+
+// wordingClass is the header's class for the wording: smaller type for a
+// long one (wordingType).
+func (v roomView) wordingClass() string {
+	size, _ := wordingType(v.wording())
+	return wordingSizes[size].class
+}
+
 // layOutReasons places v's reasons: beside the picture when they fit
 // there, else counted there with a link to the reasons display; on the
 // display (show), page's share of them.
@@ -304,7 +316,7 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 	if v.Medians != nil {
 		members = len(v.Medians.Medians)
 	}
-	wording := "Q" + strconv.Itoa(v.Question.Position) + ": " + v.Question.Wording
+	wording := v.wording()
 	if !show {
 		v.Beside = reasonsBeside(v.Reasons, members, wording)
 		if !v.Beside {

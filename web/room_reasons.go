@@ -74,14 +74,57 @@ const (
 	// list starting 190 px down, the keys' rule at 686 px), and one to
 	// spare.
 	pageFixedEm = 10
-	// The header's own lines: the wording in 1.65vw type, lines of 1.25
-	// em (1.59 reasons' ems each) over 96vw (58 of its ems); the state and
-	// the fingerprint in 1.3vw type, lines of 1.5 em over 73.8 em.
-	wordingLineEm = 1.65 * 1.25 / 1.3
-	wordingWideEm = 96 / 1.65
-	stateLineEm   = 1.5
-	stateWideEm   = 96 / 1.3
+	// pageTypeVW is the reasons display's type, 1.3vw.
+	pageTypeVW = 1.3
+	// The header's own lines: the wording (wordingHeight) over 96vw; the
+	// state and the fingerprint in 1.3vw type, lines of 1.5 em over 73.8
+	// em.
+	stateLineEm = 1.5
+	stateWideEm = 96 / 1.3
 )
+
+// The wording's type. A question's wording can be long (a well-specified
+// question defines its quantity, its population and its time), and every
+// line of it in the title type (.room-question, 1.65vw, lines of 1.25
+// em) comes off the side column's height: a panel of twenty under four
+// lines of wording ran 21 px past the foot of a 1280×720 screen, under six
+// lines 74 px. So a wording that takes more than three lines in the
+// title type is set smaller, in the state line's type (1.3vw) while it
+// takes at most three lines there, else in the side table's (1.05vw),
+// the smallest type the room view uses: the header then takes no more
+// height than three lines of the title type, up to about six lines'
+// worth of text; a longer wording takes more.
+var wordingSizes = [...]struct {
+	vw    float64 // font size, in hundredths of the screen's width
+	class string  // room.templ's class for it
+}{{1.65, "room-question"}, {1.3, "room-question room-question-long"}, {1.05, "room-question room-question-longer"}}
+
+const (
+	// wordingLineHeight is .room-question's line height, in its ems.
+	wordingLineHeight = 1.25
+	// wordingMaxLines is the most lines of the title type a wording
+	// takes before it is set smaller.
+	wordingMaxLines = 3
+)
+
+// wordingType is how the room sets a wording (with its "Q1: "): its
+// type (wordingSizes' index) and its lines there.
+func wordingType(wording string) (size, lines int) {
+	for i, t := range wordingSizes {
+		lines = textLines(wording, 96/t.vw, 0, true)
+		if i == len(wordingSizes)-1 || float64(lines)*t.vw <= wordingMaxLines*wordingSizes[0].vw {
+			return i, lines
+		}
+	}
+	return len(wordingSizes) - 1, lines
+}
+
+// wordingHeight is the wording's height in hundredths of the screen's
+// width (vw), as wordingType sets it.
+func wordingHeight(wording string) float64 {
+	size, lines := wordingType(wording)
+	return wordingSizes[size].vw * wordingLineHeight * float64(lines)
+}
 
 // textLines is how many lines text takes in a column wide ems wide, its
 // first line starting lead ems in (after a label), words wrapped where
@@ -129,8 +172,10 @@ func reasonsBeside(reasons []feedbackReason, members int, wording string) bool {
 	if members >= 5 {
 		room = sideLinesQuartiles
 	}
-	// Each line of the wording past two takes a line from the side.
-	room -= max(0, textLines(wording, wordingWideEm, 0, true)-2)
+	// Each line of the title type's height that the wording takes past
+	// two takes a line from the side.
+	titleLine := wordingSizes[0].vw * wordingLineHeight
+	room -= max(0, int(math.Ceil(wordingHeight(wording)/titleLine-2-1e-9)))
 	lines := 0
 	for _, r := range reasons {
 		lines += reasonLines(r, sideLineEm)
@@ -184,7 +229,7 @@ func pageLines(header []string) float64 {
 			continue
 		}
 		if i == 0 {
-			em -= wordingLineEm * float64(textLines(h, wordingWideEm, 0, true))
+			em -= wordingHeight(h) / pageTypeVW
 		} else {
 			em -= stateLineEm * float64(textLines(h, stateWideEm, 0, false))
 		}
