@@ -9,6 +9,7 @@ import (
 	"errors"
 	"fmt"
 	"net/url"
+	"path/filepath"
 	"time"
 
 	_ "github.com/mattn/go-sqlite3" // registers the "sqlite3" driver
@@ -152,12 +153,18 @@ func (db *DB) IntegrityCheck(ctx context.Context) (string, error) {
 
 // Backup writes a consistent copy of the database to dest with VACUUM
 // INTO, which reads one snapshot and so may run while the server writes.
-// dest must not exist.
+// dest must not exist. dest is a file's name: SQLite reads a name that
+// starts with "file:" as a URI ("file:copy.db?mode=memory"), so the name
+// is made absolute first, which no URI is.
 func (db *DB) Backup(ctx context.Context, dest string) error {
 	if dest == "" {
 		return errors.New("store: backup: empty destination path")
 	}
-	if _, err := db.r.ExecContext(ctx, "VACUUM INTO ?", dest); err != nil {
+	abs, err := filepath.Abs(dest)
+	if err != nil {
+		return fmt.Errorf("store: backup to %s: %w", dest, err)
+	}
+	if _, err := db.r.ExecContext(ctx, "VACUUM INTO ?", abs); err != nil {
 		return fmt.Errorf("store: backup to %s: %w", dest, err)
 	}
 	return nil

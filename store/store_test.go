@@ -4,7 +4,9 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"io/fs"
 	"math"
+	"os"
 	"path/filepath"
 	"reflect"
 	"strings"
@@ -631,6 +633,35 @@ func TestFacilitatorSessions(t *testing.T) {
 	}
 	if ok, _ := db.SessionValid(ctx, []byte("s1"), t0); ok {
 		t.Fatal("session survived a new facilitator secret")
+	}
+}
+
+// A copy's name is a file's name, never an SQLite URI. VACUUM INTO
+// reads a name starting with "file:" as a URI, so `parley backup --out
+// file:copy.db` wrote the copy to copy.db, and the command's integrity
+// check then opened "file:copy.db", a new empty database, and reported
+// the backup sound.
+func TestBackupToANameLikeAURI(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	t.Chdir(t.TempDir())
+	if err := db.Backup(ctx, "file:copy.db"); err != nil {
+		t.Fatal(err)
+	}
+	if _, err := os.Stat("copy.db"); !errors.Is(err, fs.ErrNotExist) {
+		t.Fatalf("the copy went to copy.db (%v)", err)
+	}
+	if _, err := os.Stat("file:copy.db"); err != nil {
+		t.Fatalf("no copy under the name given: %v", err)
+	}
+	cp, err := Open("file:copy.db")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer cp.Close()
+	if ws, err := cp.Workshops(ctx); err != nil || len(ws) != 1 || ws[0].ID != p.w.ID {
+		t.Fatalf("the copy holds %+v, %v; want the workshop", ws, err)
 	}
 }
 
