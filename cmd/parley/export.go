@@ -42,6 +42,11 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return fail(stderr, "export", err)
 	}
 	question := &qid
+	if *out != "" && *dbPath != "" {
+		if beside, ok := overDatabase(*dbPath, *out); ok {
+			return fail(stderr, "export", badInput("out", "%s is %s; write the record to a file of its own (export replaces the file --out names)", *out, beside))
+		}
+	}
 	db, err := openExisting(*dbPath)
 	if err != nil {
 		return fail(stderr, "export", err)
@@ -117,4 +122,49 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 		return err
 	}
 	return os.Rename(f.Name(), path)
+}
+
+// overDatabase reports whether writing a file at out (which replaces the
+// name out, a symbolic link itself rather than the file it names) would
+// replace the database at db or a file kept beside it: its -wal, -shm or
+// -journal, named after the database as given or as its links resolve,
+// or the server's lock file. It returns what out is, in words.
+func overDatabase(db, out string) (string, bool) {
+	target := entry(out)
+	if target == "" {
+		return "", false
+	}
+	names := []string{entry(db)}
+	if real, err := filepath.EvalSymlinks(db); err == nil {
+		names = append(names, entry(real))
+	}
+	for _, name := range names {
+		if name == "" {
+			continue
+		}
+		switch target {
+		case name:
+			return "the database (--db) itself", true
+		case name + "-wal", name + "-shm", name + "-journal":
+			return "a file SQLite keeps beside the database (--db)", true
+		case name + ".lock":
+			return "the lock file of the database's server", true
+		}
+	}
+	return "", false
+}
+
+// entry is the absolute name of path with the links of its folder
+// resolved and its own last name kept; "" when the folder cannot be
+// resolved.
+func entry(path string) string {
+	abs, err := filepath.Abs(path)
+	if err != nil {
+		return ""
+	}
+	dir, err := filepath.EvalSymlinks(filepath.Dir(abs))
+	if err != nil {
+		return ""
+	}
+	return filepath.Join(dir, filepath.Base(abs))
 }

@@ -188,6 +188,51 @@ func TestExportBadInput(t *testing.T) {
 	}
 }
 
+// An export never writes over the database it reads, nor over the files
+// SQLite keeps beside it. `export --db parley.db --out parley.db` (a
+// slip of the shell's history) replaced the whole database, every
+// workshop, with one workshop's record, and exited 0.
+func TestExportRefusesToWriteOverTheDatabase(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	link := filepath.Join(t.TempDir(), "link.db")
+	check(t, os.Symlink(path, link))
+	before, err := os.ReadFile(path)
+	check(t, err)
+	for _, tt := range []struct{ db, out string }{
+		{path, path},
+		{path, path + "-wal"},
+		{path, path + "-shm"},
+		{path, path + "-journal"},
+		{path, path + ".lock"},
+		{link, path}, // the database reached through a link
+		{path, filepath.Join(filepath.Dir(path), ".", filepath.Base(path))}, // another spelling
+	} {
+		code, out, errs := run("export", "--db", tt.db, "--workshop", ws, "--out", tt.out)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, "--out") {
+			t.Errorf("--db %s --out %s: exit %d, stderr %q; want 2 naming --out", tt.db, tt.out, code, errs)
+		}
+		if after, err := os.ReadFile(path); err != nil || !bytes.Equal(before, after) {
+			t.Fatalf("--db %s --out %s changed the database file (%v)", tt.db, tt.out, err)
+		}
+		if tt.out != path {
+			if _, err := os.Lstat(tt.out); err == nil && !strings.HasSuffix(tt.out, "-wal") && !strings.HasSuffix(tt.out, "-shm") {
+				t.Errorf("--out %s was written", tt.out)
+			}
+		}
+	}
+	// A link named as --out is replaced, not the file it names: that is
+	// not the database.
+	out := filepath.Join(t.TempDir(), "record.json")
+	check(t, os.Symlink(path, out))
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", out); code != exitOK {
+		t.Fatalf("--out a link to the database: exit %d, %s", code, errs)
+	}
+	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
+		t.Fatal("writing over a link changed the database it named")
+	}
+}
+
 func TestBackupCommand(t *testing.T) {
 	path, wid, _ := cliWorkshop(t)
 	dest := filepath.Join(t.TempDir(), "copy.db")
