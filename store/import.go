@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -140,10 +141,19 @@ func withID(query string, id int64, args ...any) (string, []any) {
 	return query, append([]any{id}, args...)
 }
 
+// maxKeptID is the largest id an import keeps. The database numbers each
+// new row after the largest id of its table, so a record's ids at the top
+// of the range (input.MaxID; no Parley database numbers that far) had
+// every later workshop, question, expert and event numbered past it,
+// where the commands refuse them and a record of them no longer reads
+// back. Ids up to half the range leave as much room again.
+const maxKeptID = input.MaxID / 2
+
 // idsFree is whether every id the record gives its workshop, questions,
 // experts, revisions, weight sets, agreed priors, study data and events
-// is positive, unique in the record and unused in the database (the
-// workshop's also by a deleted workshop, whose id is never given again).
+// is positive, at most maxKeptID, unique in the record and unused in the
+// database (the workshop's also by a deleted workshop, whose id is never
+// given again).
 func idsFree(ctx context.Context, tx *sql.Tx, rec record.Record) (bool, error) {
 	ids := map[string][]int64{"workshops": {rec.Workshop.ID}}
 	for _, q := range rec.Questions {
@@ -175,7 +185,7 @@ func idsFree(ctx context.Context, tx *sql.Tx, rec record.Record) (bool, error) {
 	for table, list := range ids {
 		seen := make(map[int64]bool, len(list))
 		for _, id := range list {
-			if id <= 0 || seen[id] {
+			if id <= 0 || id > maxKeptID || seen[id] {
 				return false, nil
 			}
 			seen[id] = true

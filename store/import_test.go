@@ -13,6 +13,7 @@ import (
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -496,5 +497,82 @@ func TestImportRefusesAnEditedPooledPrior(t *testing.T) {
 	ap.Dist.Alpha /= 1.001
 	if _, err := dst.Import(ctx, rec); err != nil {
 		t.Errorf("the record as exported: %v", err)
+	}
+}
+
+// An import keeps a record's ids only where the database can go on
+// numbering after them. A record whose ids sat at the top of the range
+// (input.MaxID, 2⁵³ − 1; no Parley database numbers that far) was
+// imported with them, and every workshop, question and expert made after
+// it was numbered past the range: `parley export --workshop` refused the
+// new workshop's id, and its record, carrying such ids, was refused by
+// `parley import`.
+func TestImportRenumbersIDsAtTheTopOfTheRange(t *testing.T) {
+	ctx := context.Background()
+	src := newDB(t)
+	p := seed(t, src)
+	var doc map[string]any
+	must(t, json.Unmarshal(exportJSON(t, src, p.w.ID), &doc))
+	delete(doc, "fingerprint") // the chain runs over the ids
+	delete(doc, "chain")
+	// Every id is moved up by the same amount, so that the largest is
+	// input.MaxID.
+	var walk func(v any, f func(m map[string]any, k string, n int64))
+	walk = func(v any, f func(m map[string]any, k string, n int64)) {
+		switch v := v.(type) {
+		case map[string]any:
+			for k, x := range v {
+				if n, ok := x.(float64); ok && n > 0 && (k == "id" || strings.HasSuffix(k, "_id")) {
+					f(v, k, int64(n))
+					continue
+				}
+				walk(x, f)
+			}
+		case []any:
+			for _, x := range v {
+				walk(x, f)
+			}
+		}
+	}
+	var largest int64
+	walk(doc, func(_ map[string]any, _ string, n int64) { largest = max(largest, n) })
+	shift := int64(input.MaxID) - largest
+	lift := func(v any) {
+		walk(v, func(m map[string]any, k string, n int64) { m[k] = json.Number(fmt.Sprint(n + shift)) })
+	}
+	lift(doc)
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Parse(bytes.NewReader(b))
+	must(t, err)
+	if rec.Workshop.ID != p.w.ID+shift {
+		t.Fatalf("the record's workshop is %d, want %d", rec.Workshop.ID, p.w.ID+shift)
+	}
+
+	dst := newDB(t)
+	id, err := dst.Import(ctx, rec)
+	must(t, err)
+	w := workshop.Workshop{Title: "Made after the import (invented)", Invented: true}
+	must(t, dst.CreateWorkshop(ctx, &w))
+	q := workshop.Question{WorkshopID: w.ID, Wording: "Share?", Quantity: "share", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	must(t, dst.AddQuestion(ctx, &q))
+	e := workshop.Expert{WorkshopID: w.ID, Name: "Dana"}
+	must(t, dst.AddExpert(ctx, &e, []byte("hash-after")))
+	for what, n := range map[string]int64{"imported workshop": id, "new workshop": w.ID, "new question": q.ID, "new expert": e.ID} {
+		if n < 1 || n > input.MaxID {
+			t.Errorf("%s numbered %d, outside 1 to %d", what, n, int64(input.MaxID))
+		}
+	}
+	// The new workshop's record (its events too) reads back.
+	if _, err := record.Parse(bytes.NewReader(exportJSON(t, dst, w.ID))); err != nil {
+		t.Errorf("the record of the workshop made after the import is refused: %v", err)
+	}
+	// A record of ordinary ids keeps them, as before.
+	fresh := newDB(t)
+	rec2, err := record.Parse(bytes.NewReader(exportJSON(t, src, p.w.ID)))
+	must(t, err)
+	if got, err := fresh.Import(ctx, rec2); err != nil || got != p.w.ID {
+		t.Fatalf("an ordinary record imported as %d (%v), want its own id %d", got, err, p.w.ID)
 	}
 }
