@@ -23,6 +23,11 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if *out == "" {
 		return fail(stderr, "backup", badInput("out", "a file for the copy is required"))
 	}
+	// A name SQLite keeps beside the database would be removed with the
+	// database's journal when this command closes it, copy and all.
+	if beside, ok := overDatabase(*dbPath, *out); ok && *dbPath != "" {
+		return fail(stderr, "backup", badInput("out", "%s is %s; write the copy to a file of its own", *out, beside))
+	}
 	if _, err := os.Lstat(*out); err == nil {
 		return fail(stderr, "backup", badInput("out", "%s already exists; backup never overwrites", *out))
 	}

@@ -261,6 +261,21 @@ func TestBackupCommand(t *testing.T) {
 	}
 }
 
+// A backup is never written under a name the database keeps beside it.
+// `backup --db parley.db --out parley.db-wal` wrote the copy there,
+// checked it and said "backup written to parley.db-wal (integrity check
+// ok)"; then the command closed the database, SQLite removed its
+// journal, parley.db-wal, and the copy was gone.
+func TestBackupRefusesTheDatabasesOwnFiles(t *testing.T) {
+	path, _, _ := cliWorkshop(t)
+	for _, out := range []string{path + "-wal", path + "-shm", path + "-journal"} {
+		code, stdout, errs := run("backup", "--db", path, "--out", out)
+		if code != exitBadInput || stdout != "" || !strings.Contains(errs, "--out") {
+			t.Errorf("--out %s: exit %d, stdout %q, stderr %q; want 2 naming --out", filepath.Base(out), code, stdout, errs)
+		}
+	}
+}
+
 func TestImportCommand(t *testing.T) {
 	path, wid, _ := cliWorkshop(t)
 	ws := strconv.FormatInt(wid, 10)
