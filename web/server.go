@@ -181,12 +181,19 @@ func (s *Server) notFound(w http.ResponseWriter, r *http.Request) {
 
 // fail answers an error from the domain or the store: not found → 404,
 // bad input → 400 with a page that says so in words (refusalPage), round closed → 409,
+// a link ended while its request was on the way → 404 as any ended link
+// (409 saying so to the facilitator),
 // anything else → 500 with details only in the log.
 func (s *Server) fail(w http.ResponseWriter, r *http.Request, err error) {
 	var ie *elicit.InputError
 	switch {
 	case errors.Is(err, workshop.ErrNotFound):
 		s.notFound(w, r)
+	case errors.Is(err, workshop.ErrRevoked) && expertFrom(r.Context()).ID != 0:
+		s.linkGone(w, r)
+	case errors.Is(err, workshop.ErrRevoked):
+		s.renderPage(w, r, http.StatusConflict, shell(r, "Private link ended"),
+			messagePage("Private link ended", "An expert's private link was ended while this was being saved, so nothing was saved. Go back to see the panel as it is now."))
 	case errors.As(err, &ie):
 		v := newRefusal(r, ie)
 		s.renderPage(w, r, http.StatusBadRequest, shell(r, v.Title), refusalPage(v))
