@@ -130,6 +130,14 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 // -journal, named after the database as given or as its links resolve,
 // or the server's lock file. It returns what out is, in words.
 func overDatabase(db, out string) (string, bool) {
+	// The same file under another name: a second hard link, or another
+	// spelling on a filesystem that ignores letter case (Parley.db and
+	// parley.db on a Mac).
+	if fo, err := os.Lstat(out); err == nil && fo.Mode().IsRegular() {
+		if fd, err := os.Stat(db); err == nil && os.SameFile(fo, fd) {
+			return "the database (--db) itself", true
+		}
+	}
 	target := entry(out)
 	if target == "" {
 		return "", false

@@ -221,6 +221,17 @@ func TestExportRefusesToWriteOverTheDatabase(t *testing.T) {
 			}
 		}
 	}
+	// The database under a second name (a hard link here; another letter
+	// case on a Mac) is the database too.
+	second := filepath.Join(filepath.Dir(path), "second.db")
+	check(t, os.Link(path, second))
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", second); code != exitBadInput || !strings.Contains(errs, "--out") {
+		t.Errorf("--out a second name of the database: exit %d, stderr %q; want 2 naming --out", code, errs)
+	}
+	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
+		t.Fatal("--out a second name of the database changed it")
+	}
+	check(t, os.Remove(second))
 	// A link named as --out is replaced, not the file it names: that is
 	// not the database.
 	out := filepath.Join(t.TempDir(), "record.json")
