@@ -100,8 +100,23 @@ func writeBuffered(w io.Writer, write func(io.Writer) error) error {
 
 // writeFileAtomic streams write's output to a new file beside path and
 // renames it over path once it is complete, so a failed export never
-// leaves a partial file behind.
+// leaves a partial file behind. path is followed through its symbolic
+// links, as a shell's > follows them: the file they name gets the output
+// and the links stay. A path that is neither a regular file nor missing,
+// a device or a pipe (/dev/null, /dev/stdout, a FIFO), is written into:
+// the rename put a regular file in its place, so that `--out /dev/null`
+// run as root replaced the system's /dev/null.
 func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
+	name := path
+	if real, err := filepath.EvalSymlinks(path); err == nil {
+		path = real
+	}
+	if fi, err := os.Stat(path); err == nil && !fi.Mode().IsRegular() {
+		if fi.IsDir() {
+			return badInput("out", "%s is a folder; name a file", name)
+		}
+		return writeInto(path, write)
+	}
 	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*")
 	if err != nil {
 		return err
@@ -124,21 +139,38 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 	return os.Rename(f.Name(), path)
 }
 
-// overDatabase reports whether writing a file at out (which replaces the
-// name out, a symbolic link itself rather than the file it names) would
-// replace the database at db or a file kept beside it: its -wal, -shm or
-// -journal, named after the database as given or as its links resolve,
-// or the server's lock file. It returns what out is, in words.
+// writeInto streams write's output into the device or pipe at path.
+func writeInto(path string, write func(io.Writer) error) error {
+	f, err := os.OpenFile(path, os.O_WRONLY, 0)
+	if err != nil {
+		return err
+	}
+	if err := writeBuffered(f, write); err != nil {
+		f.Close()
+		return err
+	}
+	return f.Close()
+}
+
+// overDatabase reports whether writing a file at out (followed through
+// its links, as writeFileAtomic follows them) would replace the database
+// at db or a file kept beside it: its -wal, -shm or -journal, named after
+// the database as given or as its links resolve, or the server's lock
+// file. It returns what out is, in words.
 func overDatabase(db, out string) (string, bool) {
-	// The same file under another name: a second hard link, or another
-	// spelling on a filesystem that ignores letter case (Parley.db and
-	// parley.db on a Mac).
-	if fo, err := os.Lstat(out); err == nil && fo.Mode().IsRegular() {
+	// The same file under another name: a link, a second hard link, or
+	// another spelling on a filesystem that ignores letter case
+	// (Parley.db and parley.db on a Mac).
+	if fo, err := os.Stat(out); err == nil {
 		if fd, err := os.Stat(db); err == nil && os.SameFile(fo, fd) {
 			return "the database (--db) itself", true
 		}
 	}
+	// Files beside the database, by name, where they are not there yet.
 	target := entry(out)
+	if real, err := filepath.EvalSymlinks(out); err == nil {
+		target = entry(real)
+	}
 	if target == "" {
 		return "", false
 	}

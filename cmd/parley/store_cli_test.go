@@ -7,10 +7,12 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"errors"
+	"io"
 	"os"
 	"path/filepath"
 	"strconv"
 	"strings"
+	"syscall"
 	"testing"
 	"time"
 
@@ -232,15 +234,74 @@ func TestExportRefusesToWriteOverTheDatabase(t *testing.T) {
 		t.Fatal("--out a second name of the database changed it")
 	}
 	check(t, os.Remove(second))
-	// A link named as --out is replaced, not the file it names: that is
-	// not the database.
+	// --out is followed through its links: a link to the database is
+	// the database.
 	out := filepath.Join(t.TempDir(), "record.json")
 	check(t, os.Symlink(path, out))
-	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", out); code != exitOK {
-		t.Fatalf("--out a link to the database: exit %d, %s", code, errs)
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", out); code != exitBadInput || !strings.Contains(errs, "--out") {
+		t.Errorf("--out a link to the database: exit %d, %q; want 2 naming --out", code, errs)
 	}
 	if after, _ := os.ReadFile(path); !bytes.Equal(before, after) {
-		t.Fatal("writing over a link changed the database it named")
+		t.Fatal("writing through a link changed the database it named")
+	}
+}
+
+// An export to a pipe or a device writes into it. The record used to be
+// written beside the name and renamed over it, so `--out /dev/null` run
+// as root put a regular file in place of the system's /dev/null, and
+// `--out /dev/stdout` in place of that link. A link is followed, as a
+// shell's > follows it: the file it names gets the record, and the link
+// stays.
+func TestExportIntoAPipeOrThroughALink(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	dir := t.TempDir()
+	fifo := filepath.Join(dir, "pipe")
+	check(t, syscall.Mkfifo(fifo, 0o600))
+	got := make(chan []byte, 1)
+	go func() {
+		f, err := os.Open(fifo) // waits for the export to open it
+		if err != nil {
+			got <- nil
+			return
+		}
+		b, _ := io.ReadAll(f)
+		f.Close()
+		got <- b
+	}()
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", fifo); code != exitOK {
+		t.Fatalf("--out a pipe: exit %d, %s", code, errs)
+	}
+	if fi, err := os.Lstat(fifo); err != nil || fi.Mode()&os.ModeNamedPipe == 0 {
+		t.Fatalf("the pipe was replaced (%v, %v)", fi.Mode(), err)
+	}
+	select {
+	case b := <-got:
+		if _, err := record.Parse(bytes.NewReader(b)); err != nil {
+			t.Fatalf("the pipe carried no record: %v (%d bytes)", err, len(b))
+		}
+	case <-time.After(10 * time.Second):
+		t.Fatal("nothing came through the pipe")
+	}
+
+	file := filepath.Join(dir, "record.json")
+	check(t, os.WriteFile(file, []byte("old"), 0o644))
+	link := filepath.Join(dir, "latest.json")
+	check(t, os.Symlink(file, link))
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", link); code != exitOK {
+		t.Fatalf("--out a link: exit %d, %s", code, errs)
+	}
+	if fi, err := os.Lstat(link); err != nil || fi.Mode()&os.ModeSymlink == 0 {
+		t.Fatal("the link was replaced by a file")
+	}
+	b, err := os.ReadFile(file)
+	check(t, err)
+	if _, err := record.Parse(bytes.NewReader(b)); err != nil {
+		t.Fatalf("the file the link names holds no record: %v", err)
+	}
+
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", dir); code != exitBadInput || !strings.Contains(errs, "--out") {
+		t.Errorf("--out a folder: exit %d, %q; want 2 naming --out", code, errs)
 	}
 }
 
