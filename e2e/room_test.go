@@ -453,3 +453,46 @@ func overlappingWords(p *person) []string {
 		return out;
 	})()`)
 }
+
+// TestRoomFootBarOnAPhone: on a phone the room's foot bar holds the links
+// to the previous and next question alone, each on one line and tall
+// enough to tap (44 px); the line about the keys, which a phone has none
+// of, had squeezed each link onto three lines. At 1366 px it is there.
+func TestRoomFootBarOnAPhone(t *testing.T) {
+	s, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[1].ID, 10) + "/room"
+	type link struct {
+		Text   string
+		Height float64
+		Lines  int
+	}
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 844, w < 600)
+		if st := fac.open(room); st != http.StatusOK {
+			t.Fatalf("%d px: room view: %d", w, st)
+		}
+		keys := fac.visible(".room-keys")
+		if keys != (w > 600) {
+			t.Errorf("%d px: the line about the keys is shown: %v", w, keys)
+		}
+		if w > 600 {
+			continue
+		}
+		links := eval[[]link](fac, "the foot bar's links", `Array.from(document.querySelectorAll(".room-nav a")).map(a => {
+			const r = document.createRange(); r.selectNodeContents(a);
+			return {text: a.innerText, height: a.getBoundingClientRect().height,
+				lines: new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size};
+		})`)
+		if len(links) != 2 {
+			t.Fatalf("%d px: the foot bar has %d links, want previous and next: %+v", w, len(links), links)
+		}
+		for _, l := range links {
+			if l.Lines != 1 || l.Height < 44 {
+				t.Errorf("%d px: the link %q takes %d lines and is %.0f px tall; want one line, at least 44 px", w, l.Text, l.Lines, l.Height)
+			}
+		}
+	}
+}
