@@ -191,8 +191,8 @@ func HDINote(d Beta, lo, hi float64, name string) string {
 // written is the bound itself, and how far from the bound each really
 // lies, in the words of WarnBeyondDouble; "" when none is. For
 // Beta(1e-5, 0.99999) the 95% equal-tailed interval is written [0, 0],
-// its ends lying about 1e-1100 and 1e-5 above 0 — as 0, with no word, it
-// read as a posterior certain of 0 (found in review). An HDI end that is
+// its ends lying about 1e-160206 and 2.9e-1100 above 0: as [0, 0], with
+// no word, it read as a posterior certain of 0. An HDI end that is
 // a bound by the density's shape (a J-shaped density's 0 or 1) is no
 // quantile and is left to HDINote, as is an end solved from the equal
 // density condition. inEq and inHDI say whether an end of eq, or of

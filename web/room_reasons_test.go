@@ -265,3 +265,27 @@ func TestDemoRoomKeepsItsReasonsBeside(t *testing.T) {
 		t.Error("the demo's room links to the reasons display")
 	}
 }
+
+// A wording of up to three lines of the room's title type keeps it; a
+// longer one is set in the state line's type while it takes three lines
+// there, else in the side table's (wordingType). The heights follow:
+// never more than three title lines' worth up to about six lines of
+// text (the e2e TestLongWordingKeepsTheSideOnScreen sees the side
+// column end on the screen under them).
+func TestLongWordingIsSetSmaller(t *testing.T) {
+	const sentence = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year? "
+	title := wordingSizes[0].vw * wordingLineHeight
+	for _, c := range []struct {
+		repeat int
+		class  string
+	}{{1, "room-question"}, {2, "room-question"}, {3, "room-question room-question-long"}, {5, "room-question room-question-longer"}} {
+		w := "Q1: " + strings.TrimSpace(strings.Repeat(sentence, c.repeat))
+		v := roomView{Question: workshop.Question{Position: 1, Wording: w[len("Q1: "):]}}
+		if got := v.wordingClass(); got != c.class {
+			t.Errorf("%d characters: class %q, want %q", len(w), got, c.class)
+		}
+		if h := wordingHeight(w); h > wordingMaxLines*title+1e-9 {
+			t.Errorf("%d characters: %.2fvw high, more than three title lines (%.2fvw)", len(w), h, wordingMaxLines*title)
+		}
+	}
+}
