@@ -196,6 +196,11 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 		}
 		return "Type the confidence as a percentage: did you mean " + ie.Detail + "%?"
 	case elicit.RuleValueInBounds:
+		if atBound(q, f, ie.Field) {
+			// "Must be between 0 and 30; you typed 0" contradicted itself
+			// to anyone who reads "between" as taking in its ends.
+			return "Must be " + strictlyBetween(q, f) + ", not at either end; you typed " + typed + "."
+		}
 		msg := "Must be " + between + "; you typed " + typed + "."
 		if v, err := strconv.ParseFloat(strings.TrimSuffix(typed, "%"), 64); err == nil && q.IsProportion() && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
 			msg += " Did you mean " + typed + "%? Type " + typed + "% or choose percentages above."
@@ -424,4 +429,25 @@ func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speake
 		}
 	}
 	return out
+}
+
+// atBound says the value typed in field reads as exactly one of q's
+// bounds, which a value may not be: the rule is strictly between.
+func atBound(q workshop.Question, f *Form, field string) bool {
+	v, _, err := workshop.ParseAnswerNumber(field, f.Value(field), q, q.IsProportion() && f.Value("unit") == unitPercent)
+	return err == nil && (v == q.Lower || v == q.Upper)
+}
+
+// strictlyBetween is q's range with its ends left out, in the terms the
+// expert types in: "above 0 and below 30", or for a proportion "above 0
+// and below 1 (above 0% and below 100%)", or "above 0% and below 100%"
+// where they chose percentages.
+func strictlyBetween(q workshop.Question, f *Form) string {
+	if !q.IsProportion() {
+		return "above " + chart.FormatValue(q.Lower) + " and below " + chart.FormatValue(q.Upper)
+	}
+	if f.Value("unit") == unitPercent {
+		return "above 0% and below 100%"
+	}
+	return "above 0 and below 1 (above 0% and below 100%)"
 }

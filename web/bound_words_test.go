@@ -1,0 +1,48 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+)
+
+// TestValueAtABoundIsToldItsEnds: a value typed exactly at a bound is
+// refused, since the rule is strictly between; its message said "Must be
+// between 0 and 30; you typed 0", which an expert reads as a
+// contradiction. It now says the ends are left out, in the terms typed.
+func TestValueAtABoundIsToldItsEnds(t *testing.T) {
+	g := newExpertRig(t)
+	cases := []struct {
+		name string
+		path string
+		form url.Values
+		id   string
+		want string
+	}{
+		{"lower bound of days", g.qpath(0, g.qs), quantiles("10", "20", "30"), "f-values-0", "Must be above 10 and below 50, not at either end; you typed 10."},
+		{"upper bound of days", g.qpath(0, g.qs), quantiles("20", "30", "50"), "f-values-2", "Must be above 10 and below 50, not at either end; you typed 50."},
+		{"a proportion at 0", g.qpath(0, g.q), quantiles("0", "0.2", "0.4"), "f-values-0", "Must be above 0 and below 1 (above 0% and below 100%), not at either end; you typed 0."},
+		{"a proportion at 100%", g.qpath(0, g.q), quantiles("0.05", "0.2", "100%"), "f-values-2", "Must be above 0 and below 1 (above 0% and below 100%), not at either end; you typed 100%."},
+		{"percentages at 0", g.qpath(0, g.q), url.Values{"unit": {"percent"}, "values[0]": {"0"}, "values[1]": {"20"}, "values[2]": {"40"}}, "f-values-0", "Must be above 0% and below 100%, not at either end; you typed 0."},
+		{"the interval's lowest at 0", g.qpath(0, g.qi), url.Values{"lowest": {"0"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"80"}}, "f-lowest", "not at either end; you typed 0."},
+	}
+	for _, c := range cases {
+		t.Run(c.name, func(t *testing.T) {
+			resp, body := g.post(c.path+"/save", c.form)
+			if resp.StatusCode != http.StatusUnprocessableEntity {
+				t.Fatalf("status %d, want 422", resp.StatusCode)
+			}
+			msg := shownError(body, c.id)
+			if !strings.Contains(msg, c.want) {
+				t.Errorf("beside %s: %q, want %q", c.id, msg, c.want)
+			}
+			if strings.Contains(msg, "between") {
+				t.Errorf("beside %s: %q still says between", c.id, msg)
+			}
+		})
+	}
+	if n := len(g.revisions()); n != 0 {
+		t.Errorf("%d revisions saved from values at a bound", n)
+	}
+}
