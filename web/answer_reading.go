@@ -85,9 +85,12 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 	if ps := q.Problems(a); len(ps) > 0 {
 		// Beside the fields that could be read, every problem at once; a
 		// field that could not be read is not compared with its neighbour.
+		// A value's own rule (within the bounds) stands whatever its
+		// neighbour holds: "2" under an unreadable "0,1" was passed over,
+		// and refused only once the comma was put right.
 		for _, p := range ps {
 			field := answerField(q, p.Field)
-			if unread && (f.Error(field) != "" || f.Error(comparedWith(p.Field)) != "" || field == "") {
+			if unread && (f.Error(field) != "" || field == "" || p.Rule == elicit.RuleValueIncreasing && f.Error(comparedWith(p.Field)) != "") {
 				continue
 			}
 			f.set(field, expertWords(q, f, p, sp))

@@ -46,3 +46,40 @@ func TestValueAtABoundIsToldItsEnds(t *testing.T) {
 		t.Errorf("%d revisions saved from values at a bound", n)
 	}
 }
+
+// TestOutOfRangeBesideAnUnreadableValue: every field's own problem shows
+// at once. A value beyond the bounds under a value that could not be read
+// ("0,1") was passed over, because its neighbour could not be compared
+// with it, and refused only on the next save.
+func TestOutOfRangeBesideAnUnreadableValue(t *testing.T) {
+	g := newExpertRig(t)
+	for _, c := range []struct {
+		name string
+		path string
+		form url.Values
+		id   string
+		want string
+	}{
+		{"quantiles", g.qpath(0, g.q), quantiles("5%", "0,1", "2"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 2."},
+		{"interval", g.qpath(0, g.qi), url.Values{"lowest": {"abc"}, "best": {"1.5"}, "highest": {"0.6"}, "confidence": {"80"}}, "f-best", "Must be between 0 and 1 (0% and 100%); you typed 1.5."},
+	} {
+		t.Run(c.name, func(t *testing.T) {
+			resp, body := g.post(c.path+"/save", c.form)
+			if resp.StatusCode != http.StatusUnprocessableEntity {
+				t.Fatalf("status %d, want 422", resp.StatusCode)
+			}
+			if msg := shownError(body, c.id); !strings.Contains(msg, c.want) {
+				t.Errorf("beside %s: %q, want %q", c.id, msg, c.want)
+			}
+		})
+	}
+	// The unreadable value is not also said to be smaller than the one
+	// above it.
+	_, body := g.post(g.qpath(0, g.q)+"/save", quantiles("0.05", "0,1", "0.5"))
+	if msg := shownError(body, "f-values-1"); !strings.Contains(msg, "is not a number Parley can read") {
+		t.Errorf("beside the unreadable value: %q", msg)
+	}
+	if msg := shownError(body, "f-values-2"); msg != "" {
+		t.Errorf("beside the value under the unreadable one: %q, want nothing", msg)
+	}
+}
