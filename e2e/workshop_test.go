@@ -87,11 +87,12 @@ func TestWorkshopInBrowser(t *testing.T) {
 	shots.take(ada, "03-expert-question-fit")
 	oneLineTimes(t, ada, "the expert's history", true)
 
-	// Question 2 by the plain form post, as without scripts.
+	// Question 2 by the "Show the fit" button, which draws the fit in
+	// place (without scripts it posts the form: TestShowTheFitStaysOnThePage).
 	openQuestion(t, ada, linkA, 2)
 	typeValues(ada, "0.5", "0.65", "0.75")
-	ada.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
-	ada.waitFor("the posted preview", fmt.Sprintf(`document.querySelectorAll(%q).length === 3`, previewCircles))
+	ada.do("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
+	ada.waitFor("the fit shown", fmt.Sprintf(`document.querySelectorAll(%q).length === 3 && document.getElementById("preview").innerText.includes("above 0.75")`, previewCircles))
 	if v := ada.value(`[name="values[1]"]`); v != "0.65" {
 		t.Errorf("Ada: after Show the fit the median field holds %q, want the typed 0.65", v)
 	}
@@ -135,7 +136,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	if v := bo.value(`[name="values[2]"]`); v != "0.8" {
 		t.Errorf("Bo: Tab did not lead from the first value to the third: the 75%% field holds %q", v)
 	}
-	bo.load("press Enter", chromedp.KeyEvent("\r"))
+	bo.do("press Enter", chromedp.KeyEvent("\r"))
 	bo.waitFor("the fit after Enter", fmt.Sprintf(`document.querySelectorAll(%q).length === 3`, previewCircles))
 	if n := revisionsOf(t, site, bo.name, 1); n != 0 {
 		t.Errorf("Enter in the form saved the answer (%d revisions); it should only show the fit", n)
@@ -777,7 +778,7 @@ func livePreview(t *testing.T, ex *person, n int, before []point, shows string) 
 	})()`, previewCircles, n, string(beforeJSON), shows)
 	if err := ex.poll(livePreviewWait, expr); err != nil {
 		t.Errorf("%s: the live preview did not redraw %d stated points within %v of typing (%v); using the Show the fit button", ex.name, n, livePreviewWait, err)
-		ex.load("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
+		ex.do("show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
 		ex.waitFor("the fit after Show the fit", expr)
 	}
 	return ex.circles(previewCircles)

@@ -2,6 +2,13 @@
 // enhancement: without this script the form's "Show the fit" button posts
 // the same form and the page is drawn again with the picture.
 //
+// With it, "Show the fit" (a tap, or Enter in a value box) asks for the
+// same fragment at once and brings it into view, the page staying where
+// it is: a page posted to show the fit came back, after the answer was
+// saved, as the browser's "Confirm Form Resubmission" on Back, and drew
+// the fit at the top of a page scrolled away from it. Should the request
+// fail, the button posts the form as it does without the script.
+//
 // On input (debounced), the form is posted to its data-preview URL, a
 // same-origin endpoint that returns only the picture and read-backs; the
 // answer replaces the element named by data-preview-target. Nothing is
@@ -70,7 +77,10 @@
     }
     var timer = null;
     var latest = 0;
-    function send() {
+    // shown is the "Show the fit" button (the form's first, which Enter in
+    // a value box presses), when it can be pressed.
+    var shown = form.querySelector("button[type=submit]:not([formaction]):not([disabled])");
+    function send(asked) {
       var ticket = ++latest;
       target.setAttribute("aria-busy", "true");
       fetch(url, {
@@ -84,7 +94,7 @@
           // picture and ask again in a moment, if nothing newer was.
           window.setTimeout(function () {
             if (ticket === latest) {
-              send();
+              send(asked);
             }
           }, 1000);
           return null;
@@ -101,8 +111,19 @@
         }
         target.innerHTML = html;
         target.setAttribute("data-updated", String(ticket));
+        if (asked) {
+          target.scrollIntoView({ block: "start" });
+        }
       }).catch(function () {
-        // The form still works by plain post; leave the last picture.
+        // The form still works by plain post; leave the last picture, or,
+        // where the expert asked for the fit, post the form for it.
+        if (asked && ticket === latest) {
+          if (form.requestSubmit) {
+            form.requestSubmit(shown);
+          } else {
+            form.submit();
+          }
+        }
       }).then(function () {
         if (ticket === latest) {
           target.removeAttribute("aria-busy");
@@ -114,7 +135,16 @@
         return;
       }
       window.clearTimeout(timer);
-      timer = window.setTimeout(send, 350);
+      timer = window.setTimeout(function () { send(false); }, 350);
     });
+    if (shown) {
+      // A click, or Enter in a value box (which clicks the form's first
+      // button); the fallback's requestSubmit clicks nothing, so it posts.
+      shown.addEventListener("click", function (ev) {
+        ev.preventDefault();
+        window.clearTimeout(timer);
+        send(true);
+      });
+    }
   });
 })();

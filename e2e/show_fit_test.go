@@ -1,0 +1,86 @@
+package e2e
+
+import (
+	"context"
+	"net/http"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/emulation"
+	"github.com/chromedp/chromedp"
+)
+
+// TestShowTheFitStaysOnThePage: an expert on a phone types her values,
+// taps "Show the fit" as the page invites her to, then saves, then taps
+// Back. The fit came by posting the page, which came back drawn from its
+// top, away from the picture, and after the save Back led to the
+// browser's "Confirm Form Resubmission". The fit now comes in place and
+// into view, and Back leads to the question's page; Enter in a value box
+// does the same; without scripts the button still posts the form.
+func TestShowTheFitStaysOnThePage(t *testing.T) {
+	g := newDeviceRig(t)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	carmen := br.person("Carmen (on a phone)")
+	link := g.links["Carmen Ruiz (invented)"]
+	q1 := link + "q/" + strconv.FormatInt(g.qs[0].ID, 10)
+	carmen.viewport(390, 844, true)
+	carmen.open(link)
+	carmen.open(q1)
+	// The page as it was when she tapped: a mark a new page would not
+	// carry.
+	eval[bool](carmen, "mark the page", `window.parleyStayed = true`)
+	typeValues(carmen, "0.03", "0.07", "0.16")
+	carmen.do("tap Show the fit", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`)))
+	if err := carmen.poll(livePreviewWait, `window.parleyStayed === true && document.querySelectorAll("#preview svg.chart-wide circle.stated").length === 3 && !document.querySelector("#preview[aria-busy=true]")`); err != nil {
+		t.Fatalf("after Show the fit the fit is not drawn on the same page (%v); the address is %s", err, carmen.url())
+	}
+	if top := eval[float64](carmen, "where the fit stands", `document.getElementById("preview").getBoundingClientRect().top`); top < -1 || top > 844/2 {
+		t.Errorf("after Show the fit the fit's top stands at %.0f px on an 844 px screen; want it in view", top)
+	}
+	shots.take(carmen, "show-fit-in-place-390")
+	saveAnswer(t, carmen)
+	carmen.do("tap Back", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, _ = chromedp.NavigateBack()(ctx, tg) // an error page is what is checked next
+		return nil
+	}))
+	if err := carmen.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
+		t.Fatal(err)
+	}
+	if u := carmen.url(); strings.HasPrefix(u, "chrome-error:") || !strings.HasSuffix(u, "/q/"+strconv.FormatInt(g.qs[0].ID, 10)) {
+		t.Errorf("Back after saving leads to %s, showing %q; want the question's page", u, clip(carmen.text(), 200))
+	}
+
+	// Enter in a value box shows the fit in place too, and saves nothing.
+	carmen.viewport(1366, 768, false)
+	carmen.open(link + "q/" + strconv.FormatInt(g.qs[3].ID, 10))
+	eval[bool](carmen, "mark the page", `window.parleyStayed = true`)
+	typeValues(carmen, "2", "3", "6")
+	carmen.do("press Enter", chromedp.KeyEvent("\r"))
+	if err := carmen.poll(livePreviewWait, `window.parleyStayed === true && document.querySelectorAll("#preview svg.chart-wide circle.stated").length === 3 && document.getElementById("preview").innerText.includes("below 2 (days)")`); err != nil {
+		t.Errorf("after Enter the fit is not drawn on the same page (%v)", err)
+	}
+	revs, _ := g.site.DB.Revisions(context.Background(), g.ws.ID)
+	for _, r := range revs {
+		if r.QuestionID == g.qs[3].ID && r.ExpertID == g.experts[2].ID {
+			t.Error("Enter in a value box saved the answer")
+		}
+	}
+	shots.take(carmen, "show-fit-enter-1366")
+
+	// Without scripts the button posts the form and the page shows the fit.
+	carmen.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
+		return err
+	}))
+	carmen.open(link + "q/" + strconv.FormatInt(g.qs[3].ID, 10))
+	typeValues(carmen, "2", "3", "7")
+	if st := carmen.load("Show the fit without scripts", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`))); st != http.StatusOK {
+		t.Errorf("Show the fit without scripts: status %d", st)
+	}
+	if n := carmen.count(`#preview svg.chart-wide circle.stated`); n != 3 || !strings.HasSuffix(carmen.url(), "/preview") {
+		t.Errorf("without scripts Show the fit leads to %s with %d stated points", carmen.url(), n)
+	}
+}
