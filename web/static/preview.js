@@ -148,3 +148,16 @@
     }
   });
 })();
+
+// A refused answer comes back as a new page, which a browser shows from
+// its top with the focus on nothing: on a phone the field to put right
+// lay a screen or more below, and a screen reader started over from the
+// masthead. The first field the page marks is focused, and so scrolled
+// into view, its message read with it (aria-describedby).
+(function () {
+  "use strict";
+  var first = document.querySelector(".answer-form .field-invalid input:not([type=hidden]), .answer-form .field-invalid select, .answer-form .field-invalid textarea");
+  if (first && typeof first.focus === "function") {
+    first.focus();
+  }
+})();
