@@ -86,7 +86,16 @@ func sheetHeader(qs []workshop.Question) string {
 // each comma (<wbr>, which a copy leaves out), so that on a phone the
 // header wraps between its columns: it broke "reason" as "re" over "ason".
 func sheetHeaderHTML(qs []workshop.Question) string {
-	cols := strings.SplitAfter(sheetHeader(qs), ",")
+	return columnsHTML(sheetHeader(qs))
+}
+
+// columnsHTML is a comma-separated list of columns, escaped, that may
+// break after each comma (<wbr>) and nowhere else: as one unbroken word a
+// four-value question's "lowest,highest,best,confidence" ran past a
+// phone's screen in the table of each question's columns, its last
+// column out of sight. Copied, it is the same text.
+func columnsHTML(list string) string {
+	cols := strings.SplitAfter(list, ",")
 	for i, c := range cols {
 		cols[i] = templ.EscapeString(c)
 	}
