@@ -45,6 +45,23 @@ type sheetView struct {
 	Replaces map[int]workshop.Revision
 }
 
+// sheetRefusedSummary follows a refusal of the sheet's own content (a
+// row, a column), which marks no field of the form.
+const sheetRefusedSummary = "Nothing was saved. Correct the sheet and check it again."
+
+// refusedSummary is what the page says under a refusal: the form's own
+// summary points to the marked fields, and a refusal of the sheet's
+// content marks none, so it said "Correct the marked fields" above a form
+// with nothing marked.
+func (v sheetView) refusedSummary() string {
+	for name := range v.Form.Errors {
+		if name != "" {
+			return nothingSavedSummary
+		}
+	}
+	return sheetRefusedSummary
+}
+
 // replacesOwn counts the rows that would follow an answer the expert
 // saved themselves.
 func (v sheetView) replacesOwn() int {

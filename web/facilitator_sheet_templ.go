@@ -57,7 +57,7 @@ func sheetPage(v sheetView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = formError(v.Form).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = formErrorSaying(v.Form, v.refusedSummary()).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
