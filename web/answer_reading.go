@@ -222,7 +222,10 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 	case workshop.RuleChipsExceeded:
 		total := 0
 		for i := 0; i+1 < len(q.BinEdges); i++ {
-			if n, err := strconv.Atoi(strings.TrimSpace(f.Value(fmt.Sprintf("counts[%d]", i)))); err == nil {
+			// A bin refused for its own sake (-2, 3.5) holds no chips:
+			// "-2" beside "30" made the count 28, "take 4 away", short of
+			// what brings the board to its number.
+			if n, err := strconv.Atoi(strings.TrimSpace(f.Value(fmt.Sprintf("counts[%d]", i)))); err == nil && n > 0 {
 				total += n
 			}
 		}

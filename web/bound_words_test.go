@@ -83,3 +83,24 @@ func TestOutOfRangeBesideAnUnreadableValue(t *testing.T) {
 		t.Errorf("beside the value under the unreadable one: %q, want nothing", msg)
 	}
 }
+
+// TestChipsOverCountLeavesOutRefusedBins: chips past the question's
+// number are counted over the bins that hold some. A bin typed as "-2",
+// refused for its own sake, was counted too: beside "30" on a board of
+// 20 chips the message said 28 were placed, "Take 8 away", which left
+// the board still over.
+func TestChipsOverCountLeavesOutRefusedBins(t *testing.T) {
+	g := newExpertRig(t)
+	resp, body := g.post(g.qpath(0, g.qc)+"/save", url.Values{"counts[0]": {"-2"}, "counts[1]": {"30"}, "counts[2]": {"3.5"}})
+	if resp.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("status %d, want 422", resp.StatusCode)
+	}
+	if msg := shownError(body, "f-counts-1"); msg != "You have placed 30 chips, and this question has 20. Take 10 away." {
+		t.Errorf("beside the bin of 30: %q", msg)
+	}
+	for _, id := range []string{"f-counts-0", "f-counts-2"} {
+		if msg := shownError(body, id); !strings.Contains(msg, "Type a whole number of chips") {
+			t.Errorf("beside %s: %q", id, msg)
+		}
+	}
+}
