@@ -18,7 +18,8 @@ import (
 // top, away from the picture, and after the save Back led to the
 // browser's "Confirm Form Resubmission". The fit now comes in place and
 // into view, and Back leads to the question's page; Enter in a value box
-// does the same; without scripts the button still posts the form.
+// does the same. Values that stop the fit, and any page without scripts,
+// still post the form, whose page marks the fields to put right.
 func TestShowTheFitStaysOnThePage(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
@@ -69,6 +70,16 @@ func TestShowTheFitStaysOnThePage(t *testing.T) {
 		}
 	}
 	shots.take(carmen, "show-fit-enter-1366")
+
+	// Values that stop the fit: the button posts the form, and the page
+	// that comes back marks the field to put right, with the focus on it.
+	typeValues(carmen, "2", "3,5", "6")
+	if st := carmen.load("Show the fit of an unreadable value", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`))); st != http.StatusUnprocessableEntity {
+		t.Errorf("Show the fit of an unreadable value: status %d, want the marked page's 422", st)
+	}
+	if id := eval[string](carmen, "the focus", `document.activeElement.id`); id != "f-values-1" || carmen.count(`.field-invalid #f-values-1`) != 1 {
+		t.Errorf("after Show the fit of an unreadable value the focus is on %q and the field is marked %d times", id, carmen.count(`.field-invalid #f-values-1`))
+	}
 
 	// Without scripts the button posts the form and the page shows the fit.
 	carmen.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {

@@ -6,8 +6,10 @@
 // same fragment at once and brings it into view, the page staying where
 // it is: a page posted to show the fit came back, after the answer was
 // saved, as the browser's "Confirm Form Resubmission" on Back, and drew
-// the fit at the top of a page scrolled away from it. Should the request
-// fail, the button posts the form as it does without the script.
+// the fit at the top of a page scrolled away from it. Where the values
+// stop the fit, or the request fails, the button posts the form as it
+// does without the script: the page that comes back marks each field to
+// put right, with its message beside it, which the fragment does not.
 //
 // On input (debounced), the form is posted to its data-preview URL, a
 // same-origin endpoint that returns only the picture and read-backs; the
@@ -80,6 +82,16 @@
     // shown is the "Show the fit" button (the form's first, which Enter in
     // a value box presses), when it can be pressed.
     var shown = form.querySelector("button[type=submit]:not([formaction]):not([disabled])");
+    // submitPlain posts the form as "Show the fit" does without the
+    // script; requestSubmit clicks nothing, so the button's handler lets
+    // it go.
+    function submitPlain() {
+      if (form.requestSubmit) {
+        form.requestSubmit(shown);
+      } else {
+        form.submit();
+      }
+    }
     function send(asked) {
       var ticket = ++latest;
       target.setAttribute("aria-busy", "true");
@@ -97,6 +109,10 @@
               send(asked);
             }
           }, 1000);
+          return null;
+        }
+        if (asked && resp.status === 422 && ticket === latest) {
+          submitPlain();
           return null;
         }
         // 200 is the picture, 422 what stops the fit, both fragments of
@@ -118,11 +134,7 @@
         // The form still works by plain post; leave the last picture, or,
         // where the expert asked for the fit, post the form for it.
         if (asked && ticket === latest) {
-          if (form.requestSubmit) {
-            form.requestSubmit(shown);
-          } else {
-            form.submit();
-          }
+          submitPlain();
         }
       }).then(function () {
         if (ticket === latest) {
@@ -139,7 +151,7 @@
     });
     if (shown) {
       // A click, or Enter in a value box (which clicks the form's first
-      // button); the fallback's requestSubmit clicks nothing, so it posts.
+      // button).
       shown.addEventListener("click", function (ev) {
         ev.preventDefault();
         window.clearTimeout(timer);
