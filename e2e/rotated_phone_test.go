@@ -30,6 +30,23 @@ func TestRotatedPhoneKeepsTargetsLarge(t *testing.T) {
 		fits(t, carmen, where, 844)
 		shots.take(carmen, fmt.Sprintf("rotated-Q%d-844", i+1))
 	}
+	// The way back to her questions is a target too, upright and on its
+	// side, with a short title on one line and a long one on two.
+	for _, size := range [][2]int64{{390, 844}, {844, 390}} {
+		carmen.viewport(size[0], size[1], true)
+		carmen.open(link + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
+		for _, title := range []string{"Mains", "Water mains survey (invented), second district"} {
+			r := eval[[]float64](carmen, "the way back's box", fmt.Sprintf(`(() => {
+				const a = document.querySelector(".breadcrumb a");
+				a.textContent = %q + ": your questions";
+				const r = a.getBoundingClientRect();
+				return [r.width, r.height];
+			})()`, title))
+			if r[0] < 43.5 || r[1] < 43.5 {
+				t.Errorf("at %d px the way back to the questions (%q) is %.0f×%.0f px", size[0], title, r[0], r[1])
+			}
+		}
+	}
 	// A laptop with a mouse keeps the form as it was.
 	carmen.viewport(1366, 768, false)
 	carmen.open(link + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
