@@ -110,13 +110,13 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		switch {
 		case errors.Is(err, elicit.ErrFitFailed):
 			// Never the fitter's own words on an expert's screen.
-			f.set("", "No distribution could be drawn through these answers. Please check them: each value above the one before, none at a bound, and not all crowded together.")
+			f.set("", "No curve could be drawn through these answers. Please check them: each value above the one before, none at a bound, and not all crowded together.")
 		case ie != nil && ie.Rule == elicit.RuleFitRange && q.Format == workshop.FormatChips:
-			f.set("", "No distribution Parley can draw matches where your chips are. Please spread them over more bins.")
+			f.set("", "No curve Parley can draw matches where your chips are. Please spread them over more bins.")
 		case ie != nil && ie.Rule == elicit.RuleFitRange:
 			// The rule's own words speak of alpha and beta; an expert
 			// reads what to change.
-			f.set("", "These values lie too close together, or too close to a bound, for any distribution Parley can draw to match them. Please spread them out or move them away from the bounds.")
+			f.set("", "These values lie too close together, or too close to a bound, for any curve Parley can draw to match them. Please spread them out or move them away from the bounds.")
 		default:
 			f.set(field, expertWords(q, f, err, sp))
 		}

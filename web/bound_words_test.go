@@ -104,3 +104,20 @@ func TestChipsOverCountLeavesOutRefusedBins(t *testing.T) {
 		}
 	}
 }
+
+// TestFitRefusalSpeaksOfACurve: values no curve can match were refused as
+// lying too close "for any distribution Parley can draw to match them",
+// a statistician's word where every other line of the expert's page
+// speaks of the curve.
+func TestFitRefusalSpeaksOfACurve(t *testing.T) {
+	g := newExpertRig(t)
+	for _, action := range []string{"/preview", "/preview?fragment=1", "/save"} {
+		resp, body := g.post(g.qpath(0, g.q)+action, quantiles("1e-9", "1.02e-9", "1.04e-9"))
+		if resp.StatusCode != http.StatusUnprocessableEntity {
+			t.Fatalf("%s: status %d, want 422", action, resp.StatusCode)
+		}
+		if !strings.Contains(body, "for any curve Parley can draw to match them") || strings.Contains(body, "distribution") {
+			t.Errorf("%s: the refusal does not speak of a curve alone", action)
+		}
+	}
+}
