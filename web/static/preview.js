@@ -173,3 +173,68 @@
     first.focus();
   }
 })();
+
+// A refused save (and "Show the fit" posted without the live preview)
+// comes back as the answer of a post, at the address .../save or
+// .../preview. Back to such a page, after the corrected answer was saved,
+// was the browser's "Confirm Form Resubmission", and so was a reload, or a
+// phone bringing the tab back. The page takes the question's own address
+// instead (the form's action without /preview), so that either opens the
+// question afresh; what is typed meanwhile rides in the history entry's
+// state, and a reload puts it back in the form. It rides with the number
+// of saves the page listed: once a save has been made since (the
+// corrected answer, which Back returns from), the page shows the saved
+// answer, not the values typed before it. (The state cannot be cleared
+// as the form is sent: changing it then stops the browser sending it.)
+(function () {
+  "use strict";
+  var form = document.querySelector("form.answer-form");
+  if (!form || !window.history || !history.replaceState) {
+    return;
+  }
+  var action = form.getAttribute("action") || "";
+  var base = action.replace(/\/preview$/, "");
+  var fields = Array.prototype.filter.call(form.elements, function (el) {
+    return el.name && !el.readOnly && !el.disabled && el.type !== "hidden" && el.type !== "submit" && el.type !== "button";
+  });
+  function typed() {
+    var t = {};
+    fields.forEach(function (el) {
+      if (el.type === "radio") {
+        if (el.checked) { t[el.name] = el.value; }
+      } else {
+        t[el.name] = el.value;
+      }
+    });
+    return t;
+  }
+  var saves = document.querySelectorAll("section.history tbody tr").length;
+  var posted = /\/(save|preview)$/.test(location.pathname) && base !== action;
+  var st = history.state;
+  if (posted) {
+    history.replaceState({ parleyTyped: typed(), parleySaves: saves }, "", base);
+  } else if (st && st.parleyTyped && st.parleySaves === saves && location.pathname === base) {
+    var t = history.state.parleyTyped, changed = false;
+    fields.forEach(function (el) {
+      if (!Object.prototype.hasOwnProperty.call(t, el.name)) { return; }
+      if (el.type === "radio") {
+        if (el.checked !== (el.value === t[el.name])) { el.checked = el.value === t[el.name]; changed = true; }
+      } else if (el.value !== t[el.name]) {
+        el.value = t[el.name];
+        changed = true;
+      }
+    });
+    if (changed) {
+      // The live preview, the chips board and the % signs follow.
+      fields.forEach(function (el) { el.dispatchEvent(new Event("input", { bubbles: true })); });
+      form.dispatchEvent(new Event("change", { bubbles: true }));
+    }
+  } else {
+    return;
+  }
+  // On input only (a choice of unit or channel sends one too): the state
+  // changed as a box lost the focus to the save button, on "change",
+  // stopped the browser sending the form.
+  function keep() { history.replaceState({ parleyTyped: typed(), parleySaves: saves }, ""); }
+  form.addEventListener("input", keep);
+})();
