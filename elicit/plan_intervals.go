@@ -17,39 +17,49 @@ import (
 // n. Measured against EqualTailed and HDI, this is the bottleneck of the
 // search (see BenchmarkCriterion).
 
-// posterior is Beta(a, b) with its log normalising constant; ib is set
-// when a shape is below 1 (small).
+// posterior is Beta(a, b) with its log normalising constant; ib is set,
+// and own true, where gonum's RegIncBeta is not accurate enough (see
+// cdf).
 type posterior struct {
 	a, b, lnB float64
-	small     bool
+	own       bool
 	ib        incBeta
 }
 
+// gonumMaxShape is the largest shape at which cdf and sf use gonum's
+// RegIncBeta (see cdf).
+const gonumMaxShape = 1e5
+
 func newPosterior(a, b float64) posterior {
-	if a < 1 || b < 1 {
+	if a < 1 || b < 1 || a > gonumMaxShape || b > gonumMaxShape {
 		ib := newIncBeta(a, b)
-		return posterior{a: a, b: b, lnB: ib.lnB, small: true, ib: ib}
+		return posterior{a: a, b: b, lnB: ib.lnB, own: true, ib: ib}
 	}
 	return posterior{a: a, b: b, lnB: mathext.Lbeta(a, b)}
 }
 
 // cdf is I_x(a, b); sf is 1 − I_x(a, b) = I_{1−x}(b, a), which keeps its
-// relative precision in the upper tail. Where a shape is below 1 they are
-// Parley's incBeta: gonum's RegIncBeta is off by up to several per cent
-// where the second shape is about 0.01 or less and 1 − x at most 1e-6
-// (I_{1−1e-7}(10⁴, 0.001) is 0.0063124 by R 4.2's pbeta, 0.0057761 by
-// gonum; TestPosteriorTails). Elsewhere gonum's is used: its error there
-// is the cancellation incBeta's doc describes (1e-10 relative at shapes
-// of 10⁵), and in the bulk of large shapes it is several times faster
-// (measured with BenchmarkCriterion; only the outcomes at the ends of a
-// planned study leave a posterior shape below 1).
+// relative precision in the upper tail. Where a shape is below 1 or above
+// gonumMaxShape they are Parley's incBeta. gonum's RegIncBeta is off by
+// up to several per cent where the second shape is about 0.01 or less and
+// 1 − x at most 1e-6 (I_{1−1e-7}(10⁴, 0.001) is 0.0063124 by R 4.2's
+// pbeta, 0.0057761 by gonum), and in the bulk of large shapes, where it
+// stops its continued fraction after 300 terms: I_{0.5}(10500035,
+// 10499965) is 0.493906 by R, 0.500040 by gonum, 2e-4 off at shapes of
+// 3·10⁶ and 4e-7 at 10⁶ (TestPosteriorTails), enough to move which
+// outcomes of a planned study meet an assurance goal. Elsewhere gonum's
+// is used: its error there is the cancellation incBeta's doc describes
+// (1e-10 relative at shapes of 10⁵), and in the bulk of moderate shapes
+// it is several times faster (measured with BenchmarkCriterion; only the
+// outcomes at the ends of a planned study leave a posterior shape below
+// 1).
 func (p posterior) cdf(x float64) float64 {
 	switch {
 	case x <= 0:
 		return 0
 	case x >= 1:
 		return 1
-	case p.small:
+	case p.own:
 		lower, _ := p.ib.tails(x, 1-x)
 		return lower
 	}
@@ -62,7 +72,7 @@ func (p posterior) sf(x float64) float64 {
 		return 1
 	case x >= 1:
 		return 0
-	case p.small:
+	case p.own:
 		_, upper := p.ib.tails(x, 1-x)
 		return upper
 	}
@@ -81,8 +91,8 @@ func (p posterior) mean() float64 { return p.a / (p.a + p.b) }
 
 // mirror is Beta(b, a), the distribution of 1 − X.
 func (p posterior) mirror() posterior {
-	m := posterior{a: p.b, b: p.a, lnB: p.lnB, small: p.small}
-	if p.small {
+	m := posterior{a: p.b, b: p.a, lnB: p.lnB, own: p.own}
+	if p.own {
 		m.ib = newIncBeta(p.b, p.a)
 	}
 	return m

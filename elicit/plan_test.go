@@ -661,15 +661,25 @@ func TestPosteriorTails(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
-			if math.Abs(r.Assurance-math.Min(want, 1)) > 1e-11*math.Max(want, 1e-3) { // the tolerance of TestAssuranceAgainstSciPy
+			tol := 1e-11 // the tolerance of TestAssuranceAgainstSciPy
+			if a > 1e6 {
+				// Each predictive term is exp of ln B(A + x, B + n − x) −
+				// ln B(A, B), numbers near −(A + B) ln 2 = −1.4e7 whose
+				// rounding leaves 1e-9 relative, in R's lbeta as in ours:
+				// R's sum reads 0.363989065493 and ours 0.363989064700
+				// where exact integer arithmetic gives 0.363989065254
+				// (rising factorials; see plan_tail_reference.R).
+				tol = 1e-8
+			}
+			if math.Abs(r.Assurance-math.Min(want, 1)) > tol*math.Max(want, 1e-3) {
 				t.Errorf("assurance under Beta(%g, %g), %d trials, P(θ > %g) ≥ %g: %.17g, R %.17g", a, b, n, th, conf, r.Assurance, want)
 			}
 		default:
 			t.Fatalf("unknown kind in %q", line)
 		}
 	}
-	if rows < 7 {
-		t.Fatalf("%d reference rows, want 7", rows)
+	if rows < 12 {
+		t.Fatalf("%d reference rows, want 12", rows)
 	}
 }
 
