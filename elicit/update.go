@@ -238,11 +238,22 @@ func hdiInterior(d Beta, level float64) (lo, hi float64) {
 	a, b := d.Alpha, d.Beta
 	logf := func(x float64) float64 { return (a-1)*math.Log(x) + (b-1)*math.Log1p(-x) }
 	dlogf := func(x float64) float64 { return (a-1)/x - (b-1)/(1-x) }
+	// logRise is log f(hi) − log f(lo) as (α−1)·log1p((hi−lo)/lo) −
+	// (β−1)·log1p((hi−lo)/(1−hi)): its sign is that of
+	// (α−1)/lo − (β−1)/(1−hi) even where hi − lo carries the rounding of
+	// two quantiles. As the difference of two logs of size 1 it was lost
+	// in their rounding for a narrow interval (a level of 1e-9 or less,
+	// or large shapes), and the solve stopped at an interval beside the
+	// mode instead of around it (TestHDIAtATinyLevelHoldsTheMode).
+	logRise := func(lo, hi float64) float64 {
+		w := hi - lo
+		return (a-1)*math.Log1p(w/lo) - (b-1)*math.Log1p(w/(1-hi))
+	}
 	tLo, tHi := 0.0, 1-level
 	t := (1 - level) / 2
 	for i := 0; i < 2000; i++ {
 		lo, hi = d.Quantile(t), d.Quantile(t+level)
-		g := logf(hi) - logf(lo)
+		g := logRise(lo, hi)
 		switch {
 		case g > 0:
 			tLo = t

@@ -568,3 +568,37 @@ func TestIntervalsBeyondDouble(t *testing.T) {
 		t.Errorf("mirror: %q", m)
 	}
 }
+
+// TestHDIAtATinyLevelHoldsTheMode: as the level c falls to 0 the
+// highest-density interval closes on the mode m = (α − 1)/(α + β − 2),
+// as [m − w/2, m + w/2] with w = c/f(m), to within O(w²) (the density is
+// flat at its mode; Box & Tiao 1973, §2.8: the ends have equal density).
+// f(m) is R 4.2.2's dbeta: dbeta(0.4, 3, 4) = 2.0736 and
+// dbeta(0.2499998749999375, 1e6, 3e6) = 1842.6356046041903. The equal
+// density of the ends was compared as log f(hi) − log f(lo), two numbers
+// of size 1 whose difference at a width of 5e-13 is lost in their
+// rounding: at 1e-12 Beta(3, 4)'s interval was [0.3999878, 0.3999878],
+// 1.2e-5 below a mode it did not hold, and at 1e-6 Beta(1e6, 3e6)'s
+// began 2.6e-9 above its mode.
+func TestHDIAtATinyLevelHoldsTheMode(t *testing.T) {
+	for _, c := range []struct {
+		d         Beta
+		level, fm float64
+		tol       float64
+	}{
+		{Beta{3, 4}, 1e-12, 2.0736, 1e-15},
+		{Beta{3, 4}, 1e-9, 2.0736, 1e-15},
+		{Beta{1e6, 3e6}, 1e-6, 1842.6356046041903, 1e-14},
+		{Beta{1e6, 3e6}, 1e-9, 1842.6356046041903, 1e-14},
+	} {
+		lo, hi, err := HDI(c.d, c.level)
+		if err != nil {
+			t.Fatal(err)
+		}
+		m := (c.d.Alpha - 1) / (c.d.Alpha + c.d.Beta - 2)
+		w := c.level / c.fm
+		if math.Abs(lo-(m-w/2)) > c.tol || math.Abs(hi-(m+w/2)) > c.tol || !(lo <= m && m <= hi) {
+			t.Errorf("HDI(%v, %g) = [%.17g, %.17g], want [%.17g, %.17g] around the mode", c.d, c.level, lo, hi, m-w/2, m+w/2)
+		}
+	}
+}
