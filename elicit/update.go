@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"math"
 	"sort"
+	"strings"
 )
 
 // MaxPredictiveTrials is the largest planned number of trials for which
@@ -383,13 +384,30 @@ func ConflictCheck(prior Beta, successes, trials int) (Conflict, error) {
 	return c, nil
 }
 
+// TailUnderflowWords is how Parley writes a tail probability of the prior
+// predictive check (Conflict) that is computed as 0. Under a Beta prior
+// every count 0…n has positive predictive probability, so such a tail is
+// one whose terms all fell below the smallest double: even a million of
+// them, each below 4.9e-324, add up to less than 1e-300. For no success
+// in 1000 trials under Beta(1e6, 1), P(Y ≤ 0) is 10^-3432.6 (R 4.2.2:
+// (lbeta(1e6, 1001) − lbeta(1e6, 1))/log(10) = −3432.612648). Written as
+// "0" it said that the data could not have happened.
+const TailUnderflowWords = "below 1e-300"
+
 // String is a one-line summary, e.g. for the command line. Each
 // probability has four significant figures, or as many more as keep one
 // short of 1 from reading 1 (ProbabilityText): P(Y ≤ s) = 0.99996 is not
-// "1", which would say that more successes could not happen.
+// "1", which would say that more successes could not happen; one
+// computed as 0 is "< 1e-300" (TailUnderflowWords).
 func (c Conflict) String() string {
-	return fmt.Sprintf("P(Y ≤ %d) = %s, P(Y ≥ %d) = %s, two-sided %s",
-		c.Successes, ProbabilityText(c.Lower, 4), c.Successes, ProbabilityText(c.Upper, 4), ProbabilityText(c.TwoSided, 4))
+	tail := func(p float64) string {
+		if p == 0 {
+			return "< 1e-300"
+		}
+		return "= " + ProbabilityText(p, 4)
+	}
+	two := "two-sided " + strings.TrimPrefix(tail(c.TwoSided), "= ")
+	return fmt.Sprintf("P(Y ≤ %d) %s, P(Y ≥ %d) %s, %s", c.Successes, tail(c.Lower), c.Successes, tail(c.Upper), two)
 }
 
 // Updated is a Beta prior updated with binomial data: the posterior

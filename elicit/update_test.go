@@ -602,3 +602,27 @@ func TestHDIAtATinyLevelHoldsTheMode(t *testing.T) {
 		}
 	}
 }
+
+// TestConflictTailBelowTheSmallestDouble: no success in 1000 trials
+// under Beta(1e6, 1) has P(Y ≤ 0) = 10^-3432.6 (R 4.2.2:
+// (lbeta(1e6, 1001) − lbeta(1e6, 1))/log(10) = −3432.612648), which a
+// double holds only as 0. Every count has positive probability under a
+// Beta prior, so the check says the tail is below 1e-300: it said
+// "P(Y ≤ 0) = 0, …, two-sided 0", data that could not have happened.
+func TestConflictTailBelowTheSmallestDouble(t *testing.T) {
+	c, err := ConflictCheck(Beta{Alpha: 1e6, Beta: 1}, 0, 1000)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if c.Lower != 0 || c.TwoSided != 0 || c.Upper != 1 {
+		t.Fatalf("%+v: want the lower tail and the two-sided value underflowed to 0, the upper 1", c)
+	}
+	if got, want := c.String(), "P(Y ≤ 0) < 1e-300, P(Y ≥ 0) = 1, two-sided < 1e-300"; got != want {
+		t.Errorf("String() = %q, want %q", got, want)
+	}
+	// A tail a double holds is written as before.
+	c, _ = ConflictCheck(Beta{Alpha: 2, Beta: 3}, 1, 2)
+	if got, want := c.String(), "P(Y ≤ 1) = 0.8, P(Y ≥ 1) = 0.6, two-sided 1"; got != want {
+		t.Errorf("String() = %q, want %q", got, want)
+	}
+}

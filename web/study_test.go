@@ -521,6 +521,31 @@ func TestStudyConflictTailStaysShortOfOne(t *testing.T) {
 	}
 }
 
+// A tail of the conflict check below the smallest double is written as
+// such: no success in 1000 trials under Beta(1e6, 1) has P(Y ≤ 0) =
+// 10^-3432.6 (R 4.2.2's lbeta; see elicit.TailUnderflowWords), computed
+// as 0, which the page wrote as "0" (data that could not have happened),
+// and the reading, here and in the report, as "two-sided tail
+// probability 0".
+func TestStudyConflictTailBelowTheSmallestDouble(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 1e6, Beta: 1}, "Invented: a prior all but sure the proportion is 1.")
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"1000"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(sp)
+	page = html.UnescapeString(page)
+	for _, want := range []string{"the chance of 0 or fewer successes in 1000 trials was below 1e-300,", "(two-sided tail probability below 1e-300)"} {
+		if !strings.Contains(page, want) {
+			t.Errorf("the study page lacks %q", want)
+		}
+	}
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(html.UnescapeString(report), "(two-sided tail probability below 1e-300)") {
+		t.Error("the report's conflict check lacks the tail below 1e-300")
+	}
+}
+
 // The "at most" column reaches 1 at the last outcome, P(X ≤ n) = 1 by
 // definition: summing the probabilities, each with the rounding of its
 // log-gamma terms, left 0.99999999 for Beta(3e6, 2) and 1000 trials,

@@ -284,6 +284,9 @@ func ConflictReading(c elicit.Conflict) string {
 		side = "more"
 	}
 	switch p := c.TwoSided; {
+	case p == 0:
+		// Below the smallest double, not impossible (elicit.TailUnderflowWords).
+		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %s). Review the prior with the panel before relying on the posterior.", data, side, elicit.TailUnderflowWords)
 	case p < 0.01:
 		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", data, side, p)
 	case p < 0.05:
