@@ -504,7 +504,7 @@ func predictiveRows(pmf []float64) []predictiveRow {
 	cdf := elicit.PredictiveCDF(pmf)
 	for x, p := range pmf {
 		if p >= chart.PredictiveListed {
-			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatValue(p), chart.FormatProbability(min(cdf[x], 1))})
+			rows = append(rows, predictiveRow{strconv.Itoa(x), chart.FormatProbability(p), chart.FormatProbability(min(cdf[x], 1))})
 		}
 	}
 	if len(rows) > 60 {

@@ -546,6 +546,27 @@ func TestStudyConflictTailBelowTheSmallestDouble(t *testing.T) {
 	}
 }
 
+// The predictive mean number of successes does not read as every trial:
+// 10 trials under Beta(1e7, 1) expect nα/(α + β) = 9.9999990 successes
+// (the beta-binomial's mean, Johnson, Kemp & Kotz 2005, §6.7.2; worked by
+// hand), which four figures wrote "10", as `parley plan` did; so the
+// table's probability of 10 successes.
+func TestStudyPredictiveMeanShortOfTheTrials(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 1e7, Beta: 1}, "Invented: a prior all but sure the proportion is 1.")
+	_, page := h.get(studyPath(ws.ID, qs[0].ID) + "?trials=10")
+	if want := "9.999999 and SD 0.001;"; !strings.Contains(html.UnescapeString(page), want) {
+		i := strings.Index(page, "has mean")
+		t.Errorf("the page lacks %q: %s", want, page[i:min(len(page), i+120)])
+	}
+	// The table's probability of 10 successes, α/(α + 10) = 0.999999000001
+	// (B(α + n, 1)/B(α, 1)), read "1" beside it.
+	if want := "<tr><td>10</td><td>0.999999</td><td>1</td></tr>"; !strings.Contains(page, want) {
+		i := strings.Index(page, "predictive-table")
+		t.Errorf("the predictive table lacks %q: %s", want, page[i:min(len(page), i+400)])
+	}
+}
+
 // The "at most" column reaches 1 at the last outcome, P(X ≤ n) = 1 by
 // definition: summing the probabilities, each with the rounding of its
 // log-gamma terms, left 0.99999999 for Beta(3e6, 2) and 1000 trials,

@@ -108,19 +108,32 @@ func shapeCount(x float64) string {
 
 // plainSig4 writes a count's mean or sd to four significant figures in
 // plain digits, as the counts beside it are: 25000, not %.4g's 2.5e+04.
-func plainSig4(x float64) string {
-	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', 3, 64), 64)
+func plainSig4(x float64) string { return plainSig(x, 4) }
+
+func plainSig(x float64, sig int) string {
+	v, err := strconv.ParseFloat(strconv.FormatFloat(x, 'e', sig-1, 64), 64)
 	if err != nil {
-		return strconv.FormatFloat(x, 'g', 4, 64)
+		return strconv.FormatFloat(x, 'g', sig, 64)
 	}
 	return strconv.FormatFloat(v, 'f', -1, 64)
+}
+
+// plainWithin is plainSig4 for a value on [lower, upper], with as many
+// more figures as keep it on its own side of each bound: the mean number
+// of successes in 10 trials under Beta(1e7, 1), 9.999999, is not "10",
+// which says that every trial succeeds.
+func plainWithin(x, lower, upper float64) string {
+	return plainSig(x, max(elicit.SideDigits(x, lower, 4), elicit.SideDigits(x, upper, 4)))
 }
 
 // within writes a value on the scale [lower, upper] to six significant
 // figures, or as many more as it takes to stay on its own side of each
 // bound: a stated 0.9999999999 is not "1", which is the bound itself.
-func within(x, lower, upper float64) string {
-	return strconv.FormatFloat(x, 'g', max(elicit.SideDigits(x, lower, 6), elicit.SideDigits(x, upper, 6)), 64)
+func within(x, lower, upper float64) string { return withinSig(x, lower, upper, 6) }
+
+// withinSig is within with sig significant figures at least.
+func withinSig(x, lower, upper float64, sig int) string {
+	return strconv.FormatFloat(x, 'g', max(elicit.SideDigits(x, lower, sig), elicit.SideDigits(x, upper, sig)), 64)
 }
 
 // finite reports whether every value is a finite number, the last check

@@ -327,15 +327,19 @@ var criterionWords = map[string][2]string{
 
 func writePlanText(w io.Writer, o planOutput) error {
 	var b strings.Builder
-	fmt.Fprintf(&b, "prior Beta(%s, %s): mean %.4g, sd %.4g; %s\n", shape(o.Alpha), shape(o.Beta), o.PriorMean, o.PriorSD, o.Worth.Words(shapeCount))
+	// The mean as `update` and `prior` write a proportion, never reading as
+	// 0 or 1 when inside them (Beta(1e7, 1)'s 0.9999999 read "1").
+	fmt.Fprintf(&b, "prior Beta(%s, %s): mean %s, sd %.4g; %s\n", shape(o.Alpha), shape(o.Beta), withinSig(o.PriorMean, 0, 1, 4), o.PriorSD, o.Worth.Words(shapeCount))
 	fmt.Fprintf(&b, "a study of %s gets %s%% of the weight in the posterior mean\n", countOf(o.Trials, "trial", "trials"), elicit.PercentText(o.DataShare, 3))
 	q := o.PredictivePercentiles
 	fmt.Fprintf(&b, "prior predictive number of successes in %s: mean %s, sd %s; 5%% %d, 50%% %d, 95%% %d\n",
-		countOf(o.Trials, "trial", "trials"), plainSig4(o.PredictiveMean), plainSig4(o.PredictiveSD), q.Q05, q.Q50, q.Q95)
+		countOf(o.Trials, "trial", "trials"), plainWithin(o.PredictiveMean, 0, float64(o.Trials)), plainSig4(o.PredictiveSD), q.Q05, q.Q50, q.Q95)
 	if len(o.Predictive) <= 31 {
 		fmt.Fprintf(&b, "  %9s  %s\n", "successes", "probability")
 		for x, p := range o.Predictive {
-			fmt.Fprintf(&b, "  %9d  %.4g\n", x, p)
+			// Short of 1 when it is: 10 successes in 10 trials under
+			// Beta(1e7, 1), 0.999999, read "1", as if certain.
+			fmt.Fprintf(&b, "  %9d  %s\n", x, elicit.ProbabilityText(p, 4))
 		}
 	} else {
 		fmt.Fprintf(&b, "  (--format json lists all %d probabilities)\n", len(o.Predictive))

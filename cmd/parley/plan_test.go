@@ -305,6 +305,32 @@ func TestPlanTextLargeDataShare(t *testing.T) {
 	}
 }
 
+// A mean inside its bounds does not read as a bound: Beta(1e7, 1) has
+// mean α/(α + β) = 1e7/(1e7 + 1) = 0.99999990, and 10 trials under it
+// expect nα/(α + β) = 9.9999990 successes (the beta-binomial's mean,
+// Johnson, Kemp & Kotz 2005, §6.7.2; worked by hand), which %.4g and
+// four figures wrote "mean 1" and "mean 10": a certain proportion, and
+// every trial a success; so the table's probability of 10 successes.
+func TestPlanTextMeansShortOfTheirBounds(t *testing.T) {
+	code, out, errOut := runCLI(t, "", "plan", "--alpha", "1e7", "--beta", "1", "--trials", "10")
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errOut)
+	}
+	// P(X = 10) = α/(α + 10) = 0.999999000001 (the beta-binomial's pmf
+	// at n with β = 1, B(α + n, 1)/B(α, 1)), which the table wrote "1".
+	for _, want := range []string{"prior Beta(1e+07, 1): mean 0.9999999, sd 1e-07;", "successes in 10 trials: mean 9.999999, sd 0.001;", "         10  0.999999\n"} {
+		if !strings.Contains(out, want) {
+			t.Errorf("text output lacks %q:\n%s", want, out)
+		}
+	}
+	// The other end: Beta(1, 1e7)'s mean 1e-7 and 10 trials' 0.000001
+	// were already apart from 0.
+	_, out, _ = runCLI(t, "", "plan", "--alpha", "1", "--beta", "1e7", "--trials", "10")
+	if want := "successes in 10 trials: mean 0.000001, sd 0.001;"; !strings.Contains(out, want) {
+		t.Errorf("text output lacks %q:\n%s", want, out)
+	}
+}
+
 // An assurance short of 1 is not printed as 1: under Beta(1, 199), 100
 // trials meet P(θ < 0.05 | data) ≥ 0.9 with probability 0.9999872 by
 // SciPy's sum over every outcome (testdata/scipy/plan_reference.csv),
