@@ -130,9 +130,15 @@ func Construct(in ConstructionInput) (Construction, error) {
 		if err := checkPositive("sd", in.SD); err != nil {
 			return Construction{}, err
 		}
-		if limit := (in.Mean - in.Lower) * (in.Upper - in.Mean); !(in.SD*in.SD < limit) {
+		// sd² < (mean − lower)(upper − mean), compared as sd against
+		// √(mean − lower)·√(upper − mean), which neither overflows nor
+		// underflows for bounds within ±1e300: as variances, bounds of
+		// 1e200 made both sides +Inf and bounds of 1e-200 both 0, and the
+		// feasible mean 5e199, sd 1e199 on [0, 1e200] (Beta(12, 12)) was
+		// refused in words that said +Inf.
+		if limit := math.Sqrt(in.Mean-in.Lower) * math.Sqrt(in.Upper-in.Mean); !(in.SD < limit) {
 			return Construction{}, inputErr("sd", RuleVarianceFeasible,
-				"sd² = %.6g, but a mean of %v on [%v, %v] allows a variance below %.6g", in.SD*in.SD, in.Mean, in.Lower, in.Upper, limit)
+				"sd %v, but a mean of %v on [%v, %v] allows an sd below √((mean − lower)(upper − mean)) = %.6g", in.SD, in.Mean, in.Lower, in.Upper, limit)
 		}
 		d, err = FromMeanSD(unit(in.Mean), in.SD/w)
 	case MethodIntervalMoments, MethodIntervalQuantiles:

@@ -273,6 +273,32 @@ func TestConstructRules(t *testing.T) {
 	}
 }
 
+// TestConstructMeanSDOnFarBounds: the method of moments does not depend
+// on the scale: a mean at the middle of [lower, upper] and an sd of a
+// tenth of the width give m = 0.5, v = 0.01 on [0, 1], so α + β =
+// m(1 − m)/v − 1 = 24 and Beta(12, 12) (Johnson, Kotz & Balakrishnan
+// 1995, ch. 25; worked by hand), on bounds of 1e200 and of 1e-200 alike.
+// Its feasibility was checked as sd² < (mean − lower)(upper − mean), whose
+// sides are +Inf on the first and 0 on the second: both were refused,
+// the first in words that said "+Inf". An sd beyond the rule on such
+// bounds is refused with finite numbers.
+func TestConstructMeanSDOnFarBounds(t *testing.T) {
+	for _, w := range []float64{1e200, 1e-200} {
+		c, err := Construct(ConstructionInput{Method: MethodMeanSD, Mean: w / 2, SD: w / 10, Upper: w})
+		if err != nil {
+			t.Fatalf("on [0, %g]: %v", w, err)
+		}
+		if relErr(c.Dist.Alpha, 12) > 1e-12 || relErr(c.Dist.Beta.Beta, 12) > 1e-12 {
+			t.Errorf("on [0, %g]: %v, want Beta(12, 12)", w, c.Dist)
+		}
+		_, err = Construct(ConstructionInput{Method: MethodMeanSD, Mean: w / 2, SD: 0.6 * w, Upper: w})
+		checkRule(t, err, "sd", RuleVarianceFeasible)
+		if err != nil && (strings.Contains(err.Error(), "Inf") || strings.Contains(err.Error(), "below 0")) {
+			t.Errorf("on [0, %g]: %v", w, err)
+		}
+	}
+}
+
 // TestBrentRoot: Brent's method on functions with known roots.
 func TestBrentRoot(t *testing.T) {
 	// cos x = x: the root r satisfies cos r = r; checked by substitution.
