@@ -91,13 +91,25 @@ func FromMeanSD(m, sd float64) (Beta, error) {
 		return Beta{}, err
 	}
 	v := sd * sd
-	if !(v > 0) {
-		return Beta{}, inputErr("sd", RulePositive, "sd %v squared underflows to 0", sd)
-	}
 	if !(v < m*(1-m)) {
 		return Beta{}, inputErr("sd", RuleVarianceFeasible, "variance %.6g, m(1-m) = %.6g", v, m*(1-m))
 	}
 	k := m*(1-m)/v - 1
+	if v == 0 || math.IsInf(k, 1) {
+		// sd² underflows to 0, or m(1 − m)/sd² overflows (sd below about
+		// 1e-154): α and β are beyond any double, and are worked in logs
+		// for the refusal, which said "Beta(+Inf, +Inf)", or, where sd²
+		// was 0, that the sd (1e-200, say) must be greater than 0.
+		// α + β is then m(1 − m)/sd² to the last figure.
+		// (logSub: m or sd may be subnormal.)
+		lnK := logSub(m) + math.Log1p(-m) - 2*logSub(sd)
+		lnA, lnB := logSub(m)+lnK, math.Log1p(-m)+lnK
+		rule := RuleShapeTooSmall // m as small as sd²: α below 1e-6
+		if math.Max(lnA, lnB) > math.Log(MaxPriorShape) {
+			rule = RuleShapeTooLarge
+		}
+		return Beta{}, inputErr("sd", rule, "Beta(%s, %s)", FormatExp(lnA, 3), FormatExp(lnB, 3))
+	}
 	d := Beta{Alpha: m * k, Beta: (1 - m) * k}
 	if err := checkShapeLimits("sd", d); err != nil {
 		return Beta{}, err

@@ -79,7 +79,7 @@ func TestFromMeanSD(t *testing.T) {
 		{0.3, 0, "sd", RulePositive},
 		{0.3, -0.1, "sd", RulePositive},
 		{0.3, math.Inf(1), "sd", RuleFinite},
-		{0.3, 1e-200, "sd", RulePositive},         // sd² underflows to 0
+		{0.3, 1e-200, "sd", RuleShapeTooLarge},    // sd² underflows to 0: see TestFromMeanSDBeyondDouble
 		{0.5, 0.5, "sd", RuleVarianceFeasible},    // variance = m(1−m) exactly
 		{0.1, 0.31, "sd", RuleVarianceFeasible},   // 0.0961 > 0.09
 		{0.9, 0.3001, "sd", RuleVarianceFeasible}, // just above the limit
@@ -88,6 +88,34 @@ func TestFromMeanSD(t *testing.T) {
 		_, err := FromMeanSD(c.m, c.sd)
 		checkRule(t, err, c.field, c.rule)
 	}
+}
+
+// TestFromMeanSDBeyondDouble: an sd so small that sd² underflows to 0,
+// or m(1 − m)/sd² overflows, asks for shapes beyond any double, α =
+// m(m(1 − m)/sd² − 1) (the moment estimators, Johnson, Kotz &
+// Balakrishnan 1995, ch. 25; worked by hand): 6.3e398 for m = 0.3 and
+// sd = 1e-200, 1.25e319 for m = 0.5 and sd = 1e-160. They are refused as
+// beyond the shape limit, with the shapes written in full; the first was
+// refused as "must be greater than 0", a rule 1e-200 meets, and the
+// second as "Beta(+Inf, +Inf)".
+func TestFromMeanSDBeyondDouble(t *testing.T) {
+	for _, c := range []struct {
+		m, sd float64
+		want  string
+	}{
+		{0.3, 1e-200, "Beta(6.30e398, 1.47e399)"},
+		{0.5, 1e-160, "Beta(1.25e319, 1.25e319)"},
+	} {
+		_, err := FromMeanSD(c.m, c.sd)
+		checkRule(t, err, "sd", RuleShapeTooLarge)
+		if err == nil || !strings.Contains(err.Error(), c.want) || strings.Contains(err.Error(), "Inf") {
+			t.Errorf("FromMeanSD(%v, %v): %v, want the shapes %s", c.m, c.sd, err, c.want)
+		}
+	}
+	// A mean as small as sd² leaves α below the limit: Beta(1e-322, 10)
+	// for m = 1e-323 and sd = 1e-162 (α + β = m/sd² = 10).
+	_, err := FromMeanSD(1e-323, 1e-162)
+	checkRule(t, err, "sd", RuleShapeTooSmall)
 }
 
 func TestFromIntervalMoments(t *testing.T) {
