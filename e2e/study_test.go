@@ -229,7 +229,7 @@ func TestQuickPriorsInBrowser(t *testing.T) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		fac.sees(string(m), fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(c.Dist.Alpha), chart.FormatValue(c.Dist.Beta.Beta)), chart.FormatPercent(c.CoverageAchieved))
+		fac.sees(string(m), fmt.Sprintf("Beta(%s, %s)", chart.FormatValue(c.Dist.Alpha), chart.FormatValue(c.Dist.Beta.Beta)), elicit.PercentText(c.CoverageAchieved, 4)+"%")
 	}
 	axe := axeSourceOrNothing(t)
 	here := strings.SplitN(fac.url(), "#", 2)[0]
