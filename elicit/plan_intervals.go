@@ -137,11 +137,16 @@ func (p posterior) oriented(s *warm) (posterior, int, float64) {
 
 // lowerQuantile is the quantile at q, found by Newton's method on
 // log F(e^y) = log q in y = log x, which is nearly straight in the lower
-// tail (F(x) ≈ C·x^a there), from x0 when 0 < x0 < 1 and from gonum's
-// inverse (Beta.Quantile) otherwise. It keeps relative precision in x.
+// tail (F(x) ≈ C·x^a there), from x0 when 0 < x0 < 1 and otherwise as
+// Beta.Quantile computes it, from gonum's inverse. It keeps relative
+// precision in x. Beta.Quantile itself is not called: it refuses shapes
+// above MaxShape with NaN, and a prior at the envelope's edge has
+// posteriors beyond it (Beta(1e7, 1e7) after 10 trials;
+// TestCriterionBeyondMaxShape).
 func (p posterior) lowerQuantile(q, x0 float64) float64 {
 	if !(x0 > 0 && x0 < 1) {
-		return Beta{Alpha: p.a, Beta: p.b}.Quantile(q)
+		c := newIncBeta(p.a, p.b)
+		return c.quantileFrom(q, mathext.InvRegIncBeta(p.a, p.b, q))
 	}
 	lq := math.Log(q)
 	fdf := func(y float64) (float64, float64) {

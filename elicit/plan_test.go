@@ -325,6 +325,31 @@ func TestSampleSizeUnreachable(t *testing.T) {
 	}
 }
 
+// TestCriterionBeyondMaxShape: a prior at the envelope's edge, Beta(1e7,
+// 1e7), has posteriors with shapes above MaxShape (up to 1e7 + 10⁵ in a
+// sample-size search). The equal-tailed widths started from
+// Beta.Quantile, which refuses such shapes with NaN, and the criterion
+// was "not a finite number": `parley plan --alpha 1e7 --beta 1e7
+// --length 0.0003` exited 1 instead of saying no n meets the goal. The
+// expected widths against R 4.2.2's qbeta over every outcome (lchoose and
+// lbeta for the predictive; at n = 10⁵ the outcomes of probability above
+// 1e-18): 0.00043826124456339 at n = 1, 0.000437169693639306 at n = 10⁵.
+func TestCriterionBeyondMaxShape(t *testing.T) {
+	goal := SampleSizeGoal{Criterion: CriterionALC, Interval: IntervalEqual, Level: 0.95, Length: 0.0003}
+	for _, c := range []struct {
+		n    int
+		want float64
+	}{{1, 0.00043826124456339}, {100000, 0.000437169693639306}} {
+		r, err := CriterionValue(Beta{Alpha: 1e7, Beta: 1e7}, goal, c.n)
+		if err != nil {
+			t.Fatalf("n = %d: %v", c.n, err)
+		}
+		if relErr(r.Value, c.want) > 1e-8 {
+			t.Errorf("n = %d: expected width %.15g, R %.15g", c.n, r.Value, c.want)
+		}
+	}
+}
+
 func TestSampleSizeCancelled(t *testing.T) {
 	ctx, cancel := context.WithCancel(context.Background())
 	cancel()

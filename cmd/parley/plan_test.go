@@ -257,6 +257,11 @@ func TestPlanBadInput(t *testing.T) {
 		{"format", append(with(assure...), "--format", "yaml"), []string{"format", "text or json"}},
 		{"unknown flag", with("--lenght", "0.1"), []string{"lenght"}},
 		{"stray argument", with("200"), []string{"200", "unexpected argument"}},
+		// A prior at the envelope's edge whose goal no n up to 10⁵ meets:
+		// its posteriors' shapes pass 1e7, and the search exited 1 with
+		// "the alc criterion at 1 trials is not a finite number"
+		// (elicit.TestCriterionBeyondMaxShape).
+		{"unreachable at the edge", []string{"plan", "--alpha", "1e7", "--beta", "1e7", "--trials", "10", "--length", "0.0003"}, []string{"length", string(elicit.RuleSampleSizeUnreachable)}},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
