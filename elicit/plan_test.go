@@ -333,7 +333,8 @@ func TestSampleSizeUnreachable(t *testing.T) {
 // --length 0.0003` exited 1 instead of saying no n meets the goal. The
 // expected widths against R 4.2.2's qbeta over every outcome (lchoose and
 // lbeta for the predictive; at n = 10⁵ the outcomes of probability above
-// 1e-18): 0.00043826124456339 at n = 1, 0.000437169693639306 at n = 10⁵.
+// 1e-18; testdata/r/study_review_reference.R): 0.00043826124456339 at
+// n = 1, 0.000437169693639306 at n = 10⁵.
 func TestCriterionBeyondMaxShape(t *testing.T) {
 	goal := SampleSizeGoal{Criterion: CriterionALC, Interval: IntervalEqual, Level: 0.95, Length: 0.0003}
 	for _, c := range []struct {

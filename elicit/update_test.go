@@ -574,7 +574,8 @@ func TestIntervalsBeyondDouble(t *testing.T) {
 // as [m − w/2, m + w/2] with w = c/f(m), to within O(w²) (the density is
 // flat at its mode; Box & Tiao 1973, §2.8: the ends have equal density).
 // f(m) is R 4.2.2's dbeta: dbeta(0.4, 3, 4) = 2.0736 and
-// dbeta(0.2499998749999375, 1e6, 3e6) = 1842.6356046041903. The equal
+// dbeta(0.2499998749999375, 1e6, 3e6) = 1842.6356046041903
+// (testdata/r/study_review_reference.R). The equal
 // density of the ends was compared as log f(hi) − log f(lo), two numbers
 // of size 1 whose difference at a width of 5e-13 is lost in their
 // rounding: at 1e-12 Beta(3, 4)'s interval was [0.3999878, 0.3999878],
@@ -605,7 +606,8 @@ func TestHDIAtATinyLevelHoldsTheMode(t *testing.T) {
 
 // TestConflictTailBelowTheSmallestDouble: no success in 1000 trials
 // under Beta(1e6, 1) has P(Y ≤ 0) = 10^-3432.6 (R 4.2.2:
-// (lbeta(1e6, 1001) − lbeta(1e6, 1))/log(10) = −3432.612648), which a
+// (lbeta(1e6, 1001) − lbeta(1e6, 1))/log(10) = −3432.612648;
+// testdata/r/study_review_reference.R), which a
 // double holds only as 0. Every count has positive probability under a
 // Beta prior, so the check says the tail is below 1e-300: it said
 // "P(Y ≤ 0) = 0, …, two-sided 0", data that could not have happened.

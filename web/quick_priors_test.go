@@ -441,7 +441,8 @@ func TestASpreadReadsAsThePointsBesideIt(t *testing.T) {
 // of [0.4, 0.6] at 90% is Beta(33.319, 33.319), which holds 89.966% of
 // its probability there (R 4.2.2: sd = 0.1/qnorm(0.95), α = β =
 // 0.5·(0.25/sd² − 1) = 33.31929318, pbeta(0.6, α, α) − pbeta(0.4, α, α)
-// = 0.8996552515), and the exact quantile match 90%. Three figures wrote
+// = 0.8996552515; testdata/r/study_review_reference.R), and the exact
+// quantile match 90%. Three figures wrote
 // both "90%", in the comparison's emphasised row and in "it holds 90%",
 // where `parley prior` says 89.97%.
 func TestQuickPriorsTellTheCoveragesApart(t *testing.T) {

@@ -523,7 +523,8 @@ func TestStudyConflictTailStaysShortOfOne(t *testing.T) {
 
 // A tail of the conflict check below the smallest double is written as
 // such: no success in 1000 trials under Beta(1e6, 1) has P(Y ≤ 0) =
-// 10^-3432.6 (R 4.2.2's lbeta; see elicit.TailUnderflowWords), computed
+// 10^-3432.6 (R 4.2.2's lbeta, testdata/r/study_review_reference.R; see
+// elicit.TailUnderflowWords), computed
 // as 0, which the page wrote as "0" (data that could not have happened),
 // and the reading, here and in the report, as "two-sided tail
 // probability 0".
