@@ -60,9 +60,14 @@ func EquivalentSample(s, n float64) (Beta, error) {
 		return Beta{}, inputErr("successes", RuleBelowTrials, "%v successes in %v trials", s, n)
 	}
 	d := Beta{Alpha: s, Beta: n - s}
+	// The limits hold α = s and β = n − s each, as every construction's
+	// (checkShapeLimits): n itself may pass 1e7. Beta(5e6, 1e7), which the
+	// mean and SD make, was refused here as 5e6 in 1.5e7 imagined trials.
 	switch {
-	case n > MaxPriorShape:
-		return Beta{}, inputErr("trials", RuleShapeTooLarge, "%v imagined trials", n)
+	case s > MaxPriorShape:
+		return Beta{}, inputErr("successes", RuleShapeTooLarge, "%v imagined successes", s)
+	case n-s > MaxPriorShape:
+		return Beta{}, inputErr("trials", RuleShapeTooLarge, "%v imagined failures", n-s)
 	case s < MinPriorShape:
 		return Beta{}, inputErr("successes", RuleShapeTooSmall, "%v imagined successes", s)
 	case n-s < MinPriorShape:

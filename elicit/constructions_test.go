@@ -48,10 +48,20 @@ func TestEquivalentSample(t *testing.T) {
 		{3, 0, "trials", RulePositive},
 		{10, 10, "successes", RuleBelowTrials},
 		{11, 10, "successes", RuleBelowTrials},
+		{2e7, 2.5e7, "successes", RuleShapeTooLarge}, // α = 2e7
+		{5e6, 2e7, "trials", RuleShapeTooLarge},      // β = 1.5e7
 	}
 	for _, c := range bad {
 		_, err := EquivalentSample(c.s, c.n)
 		checkRule(t, err, c.field, c.rule)
+	}
+	// The limits are α's and β's, not n's: 5e6 in 1.5e7 imagined trials
+	// is Beta(5e6, 1e7) by the convention Beta(s, n − s), both shapes
+	// within 1e7 (a Beta the mean and SD method makes from mean
+	// 0.3333333333 and sd 0.00012171612). It was refused as above 1e7.
+	d, err := EquivalentSample(5e6, 1.5e7)
+	if err != nil || d != (Beta{Alpha: 5e6, Beta: 1e7}) {
+		t.Errorf("EquivalentSample(5e6, 1.5e7) = %v, %v; want Beta(5e6, 1e7)", d, err)
 	}
 }
 
