@@ -74,8 +74,11 @@ type studyView struct {
 	// data, Planned updates each prior with the data and it together.
 	PlannedOutcome int
 	Observed       *sensitivityBlock // posteriors for the recorded data
-	Skipped        []string          // priors left out of the comparison, and why
-	Caveats        []string          // pools whose single Beta stands in for them only roughly
+	// PlannedOmitted and ObservedOmitted say why a comparison that is
+	// due could not be worked out (compareWhy); "" otherwise.
+	PlannedOmitted, ObservedOmitted string
+	Skipped                         []string // priors left out of the comparison, and why
+	Caveats                         []string // pools whose single Beta stands in for them only roughly
 }
 
 // priorChoice is one prior the study can be planned under.
@@ -252,11 +255,11 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 				// from the recorded data and the follow-up together.
 				s, n = s+v.Update.Successes, n+v.Update.Trials
 			}
-			v.Planned = compare(priors, s, n, "planned")
+			v.Planned, v.PlannedOmitted = compareWhy(priors, s, n, "planned")
 		}
 	}
 	if v.Update != nil {
-		v.Observed = compare(priors, v.Update.Successes, v.Update.Trials, "observed")
+		v.Observed, v.ObservedOmitted = compareWhy(priors, v.Update.Successes, v.Update.Trials, "observed")
 	}
 	return v
 }
@@ -294,11 +297,30 @@ func updatePicture(q workshop.Question, u workshop.Update) chart.PanelView {
 		}}
 }
 
+// compareWhy is compare, or, when the priors cannot all be updated with
+// the data, nil and why, in words: the planned study's comparison was
+// left out without a word when the recorded data and the planned trials
+// together passed the trials an update takes.
+func compareWhy(priors []elicit.NamedPrior, s, n int, id string) (*sensitivityBlock, string) {
+	b, err := compare(priors, s, n, id)
+	if err == nil {
+		return b, ""
+	}
+	var ie *elicit.InputError
+	switch {
+	case errors.As(err, &ie) && ie.Field == "trials" && ie.Rule == elicit.RuleCountRange:
+		return nil, fmt.Sprintf("Not worked out: %s in all, more than the %d trials an update takes.", successesIn(s, n), elicit.MaxUpdateTrials)
+	case errors.As(err, &ie) && ie.Rule == elicit.RulePosteriorRange:
+		return nil, "Not worked out: after " + successesIn(s, n) + " a prior's posterior would have α or β above 1e7, beyond what Parley computes accurately."
+	}
+	return nil, "Not worked out: " + err.Error()
+}
+
 // compare is the posterior under every prior for s successes in n trials.
-func compare(priors []elicit.NamedPrior, s, n int, id string) *sensitivityBlock {
+func compare(priors []elicit.NamedPrior, s, n int, id string) (*sensitivityBlock, error) {
 	rows, err := elicit.Sensitivity(priors, s, n, workshop.UpdateLevel)
 	if err != nil {
-		return nil
+		return nil, err
 	}
 	b := &sensitivityBlock{Successes: s, Trials: n, Rows: rows,
 		Picture: chart.IntervalsView{ID: "compare-" + id, XTitle: "posterior proportion",
@@ -308,7 +330,7 @@ func compare(priors []elicit.NamedPrior, s, n int, id string) *sensitivityBlock 
 		b.Picture.Rows = append(b.Picture.Rows, chart.IntervalRow{Label: r.Name, Mean: r.Mean, Lo: r.Interval[0], Hi: r.Interval[1],
 			Emphasis: r.Name == "Agreed prior"})
 	}
-	return b
+	return b, nil
 }
 
 // planStudy reads the planning form (defaults when it is empty) and

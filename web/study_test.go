@@ -568,6 +568,31 @@ func TestStudyPredictiveMeanShortOfTheTrials(t *testing.T) {
 	}
 }
 
+// A comparison that is due but cannot be worked out says why: a
+// follow-up of 2000 trials planned under the posterior after 999000
+// recorded trials makes 1001000 trials in all, more than an update takes
+// (elicit.MaxUpdateTrials), and the comparison for the planned study was
+// left out without a word, below the one for the recorded data.
+func TestStudySaysWhyAComparisonIsLeftOut(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"40000"}, "trials": {"999000"}, "source": {"Fleet log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(sp + "?prior=posterior&trials=2000")
+	page = html.UnescapeString(page)
+	if !strings.Contains(page, "For the recorded data") {
+		t.Fatal("no comparison for the recorded data")
+	}
+	i := strings.Index(page, `id="planned-omitted"`)
+	if i < 0 {
+		t.Fatal("the comparison for the planned study is left out without a word")
+	}
+	if want := " trials in all, more than the 1000000 trials an update takes."; !strings.Contains(page[i:], "in 1001000"+want) {
+		t.Errorf("the note does not say why: %s", page[i:min(len(page), i+200)])
+	}
+}
+
 // The "at most" column reaches 1 at the last outcome, P(X ≤ n) = 1 by
 // definition: summing the probabilities, each with the rounding of its
 // log-gamma terms, left 0.99999999 for Beta(3e6, 2) and 1000 trials,
