@@ -283,23 +283,34 @@ func ConflictReading(c elicit.Conflict) string {
 	if c.Upper < c.Lower {
 		side = "more"
 	}
+	// The tail probability is written with the figures that keep it on
+	// its own side of the cut-offs (elicit.SideDigits): %.2g wrote
+	// 0.04996 "0.05" beside "surprising" (below 0.05), and 0.19996 "0.2"
+	// beside "towards its upper end" (below 0.2).
+	pText := func(p float64) string {
+		digits := 2
+		for _, cut := range []float64{0.01, 0.05, 0.2} {
+			digits = max(digits, elicit.SideDigits(p, cut, 2))
+		}
+		return strconv.FormatFloat(p, 'g', digits, 64)
+	}
 	switch p := c.TwoSided; {
 	case p == 0:
 		// Below the smallest double, not impossible (elicit.TailUnderflowWords).
 		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %s). Review the prior with the panel before relying on the posterior.", data, side, elicit.TailUnderflowWords)
 	case p < 0.01:
-		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %.2g). Review the prior with the panel before relying on the posterior.", data, side, p)
+		return fmt.Sprintf("The data conflict with the prior: %s is far %s than the prior expected (two-sided tail probability %s). Review the prior with the panel before relying on the posterior.", data, side, pText(p))
 	case p < 0.05:
-		return fmt.Sprintf("The data are surprising under the prior: %s is %s than the prior expected (two-sided tail probability %.2g). Look at the prior and the data again.", data, side, p)
+		return fmt.Sprintf("The data are surprising under the prior: %s is %s than the prior expected (two-sided tail probability %s). Look at the prior and the data again.", data, side, pText(p))
 	}
 	if c.TwoSided < 0.2 {
 		end := "lower"
 		if side == "more" {
 			end = "upper"
 		}
-		return fmt.Sprintf("No sign of conflict at the 5%% level: %s is within what the prior allowed, though towards its %s end (two-sided tail probability %.2g).", data, end, c.TwoSided)
+		return fmt.Sprintf("No sign of conflict at the 5%% level: %s is within what the prior allowed, though towards its %s end (two-sided tail probability %s).", data, end, pText(c.TwoSided))
 	}
-	return fmt.Sprintf("No sign of conflict: %s is well within what the prior expected (two-sided tail probability %.2g).", data, c.TwoSided)
+	return fmt.Sprintf("No sign of conflict: %s is well within what the prior expected (two-sided tail probability %s).", data, pText(c.TwoSided))
 }
 
 // CheckDataUpdate refuses a batch d after which the agreed prior could no

@@ -180,6 +180,28 @@ func TestConflictReading(t *testing.T) {
 	}
 }
 
+// The reading's tail probability reads on its own side of the cut-off
+// that graded it (words, no source needed): two figures wrote 0.04996
+// "0.05" beside "surprising", a grade for values below 0.05, and 0.19996
+// "0.2" beside "towards its upper end", a grade for values below 0.2.
+func TestConflictReadingToldFromItsCutOff(t *testing.T) {
+	for _, c := range []struct {
+		p    float64
+		want string
+	}{
+		{0.04996, "(two-sided tail probability 0.04996)"},
+		{0.19996, "(two-sided tail probability 0.19996)"},
+		{0.009996, "(two-sided tail probability 0.009996)"},
+		{0.05, "(two-sided tail probability 0.05)"},
+		{0.0042, "(two-sided tail probability 0.0042)"},
+	} {
+		r := ConflictReading(elicit.Conflict{Successes: 12, Trials: 100, Lower: 0.99, Upper: c.p / 2, TwoSided: c.p})
+		if !strings.Contains(r, c.want) {
+			t.Errorf("p = %v: %q lacks %q", c.p, r, c.want)
+		}
+	}
+}
+
 func TestStudyDataRules(t *testing.T) {
 	ok := StudyData{Successes: 0, Trials: 1, Source: "log", ObservedOn: "2026-01-01"}
 	if err := ok.Validate(); err != nil {
