@@ -70,11 +70,17 @@ func newPlot(id string, lay plotLayout, x0, x1, y0, y1 float64, xTitle, yTitle s
 	return g
 }
 
-// wholeTicks drops the ticks of a count axis that are not whole numbers.
+// wholeTicks drops the ticks of a count axis that are not whole numbers,
+// and writes the ones it keeps as counts: a window of one outcome (all
+// the predictive probability on 10 of 10 trials) is ticked in tenths,
+// and its one whole tick was labelled "10.0".
 func (g *plotGeom) wholeTicks() {
 	var kept []tickGeom
 	for _, t := range g.XTicks {
 		if v, err := strconv.ParseFloat(t.Value, 64); err == nil && v == math.Trunc(v) {
+			if t.Label != "" {
+				t.Label = strconv.FormatFloat(v, 'f', -1, 64)
+			}
 			kept = append(kept, t)
 		}
 	}

@@ -175,3 +175,22 @@ func TestTwoLineLabelsReadAsTheirRows(t *testing.T) {
 		}
 	}
 }
+
+// A predictive distribution on one outcome (all of it on 10 successes in
+// 10 trials, as under Beta(1e7, 1)) draws one bar in a window of one
+// outcome, whose axis is ticked in tenths: the one whole tick kept is
+// labelled as the count it is, "10", not "10.0".
+func TestPredictiveOneBarIsLabelledAsACount(t *testing.T) {
+	pmf := make([]float64, 11)
+	pmf[10] = 1
+	html := render(t, Predictive(PredictiveView{ID: "p", Trials: 10, PMF: pmf}))
+	labels := regexp.MustCompile(`class="tick-label" [^>]*>([^<]*)<`).FindAllStringSubmatch(html, -1) // the x axis's
+	if len(labels) == 0 {
+		t.Fatal("the one bar's axis has no tick labels")
+	}
+	for _, l := range labels {
+		if l[1] != "10" {
+			t.Errorf("tick labelled %q on a count axis of one outcome, 10", l[1])
+		}
+	}
+}
