@@ -18,7 +18,9 @@ import (
 // an event (its bounds, its background, its revealed true value) is
 // refused by the record's reader, naming the field: the question's rows
 // are not chained, its events are. So is an expert revoked or let back
-// without an event (a revoked expert's answers leave the pool).
+// without an event (a revoked expert's answers leave the pool), and a
+// question retired or brought back without one (a retired question
+// leaves the pools and the scores).
 func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
@@ -38,6 +40,8 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		must(t, db.AddExpert(ctx, &e, []byte("token-"+name)))
 		experts = append(experts, e)
 	}
+	must(t, db.SetQuestionRetired(ctx, cal.ID, true, "the seed was found ambiguous"))
+	must(t, db.SetQuestionRetired(ctx, cal.ID, false, "the ambiguity was settled"))
 	must(t, db.RevokeExpert(ctx, experts[0].ID, "left the panel"))
 	must(t, db.RevokeExpert(ctx, experts[1].ID, "lost their link"))
 	must(t, db.ReissueToken(ctx, experts[1].ID, []byte("new token"), "lost their link"))
@@ -53,6 +57,8 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		{`UPDATE questions SET log_uniform_background = 0 WHERE id = ?`, "questions[1].log_uniform_background"},
 		{`UPDATE questions SET true_value = 400 WHERE id = ?`, "questions[1].true_value"},
 		{`UPDATE questions SET probs = '[0.1,0.5,0.9]' WHERE id = ?`, "questions[0].probs"},
+		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[0].retired"},
+		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[1].retired"},
 		{`UPDATE experts SET revoked = 0 WHERE id = ?`, "experts[0].revoked"},
 		{`UPDATE experts SET revoked = 1 WHERE id = ?`, "experts[1].revoked"},
 	} {
@@ -183,4 +189,46 @@ func culvertWorkshop(t *testing.T, db *DB) (workshop.Workshop, workshop.Question
 	must(t, db.CreateWorkshop(context.Background(), &w))
 	return w, workshop.Question{WorkshopID: w.ID, Wording: "Culverts inspected last year?", Quantity: "culverts",
 		Lower: 1, Upper: 5000, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}, Calibration: true}
+}
+
+// A reason withheld from the feedback, or shown again, through Parley
+// reads back; a withholding written into the database without its event
+// (a reason_decisions row) is refused by the record's reader, naming the
+// revision's field, and so is the record's flag edited in the file.
+func TestReasonWithheldWithoutAnEventIsRefused(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	var revs []workshop.Revision
+	for _, e := range p.experts[:2] {
+		rv := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Reason: "Invented: field returns of " + e.Name,
+			Answer: workshop.Answer{Values: []float64{0.1, 0.2, 0.4}}}
+		must(t, db.SaveRevision(ctx, &rv))
+		revs = append(revs, rv)
+	}
+	must(t, db.SetReasonWithheld(ctx, revs[0].ID, true, "names a client"))
+	must(t, db.SetReasonWithheld(ctx, revs[0].ID, false, "the client agreed"))
+	must(t, db.SetReasonWithheld(ctx, revs[1].ID, true, "names a client"))
+	refused := func(doc []byte, field string) {
+		t.Helper()
+		var ie *elicit.InputError
+		if _, err := record.Parse(bytes.NewReader(doc)); !errors.As(err, &ie) || ie.Field != field || ie.Rule != record.RuleDefinitionMismatch {
+			t.Errorf("the record reads with %v, want %s refused (%s)", err, field, record.RuleDefinitionMismatch)
+		}
+	}
+	doc := exportJSON(t, db, p.w.ID)
+	if _, err := record.Parse(bytes.NewReader(doc)); err != nil {
+		t.Fatalf("the record of reasons withheld through Parley: %v", err)
+	}
+	// The flag edited in the file: revision 2's withholding lifted.
+	edited := bytes.Replace(doc, []byte(`"reason_withheld": true`), []byte(`"reason_withheld": false`), 1)
+	if bytes.Equal(edited, doc) {
+		t.Fatal("the export does not show revision 2's reason withheld")
+	}
+	refused(edited, "revisions[1].reason_withheld")
+	// Revision 1's reason withheld again in the database, without an event.
+	_, err := db.w.ExecContext(ctx, `INSERT INTO reason_decisions (revision_id, withheld, reason, at) VALUES (?, 1, 'quietly', ?)`,
+		revs[0].ID, formatTime(now()))
+	must(t, err)
+	refused(exportJSON(t, db, p.w.ID), "revisions[0].reason_withheld")
 }

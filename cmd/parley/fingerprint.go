@@ -76,7 +76,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	disagrees := "the file's own chain disagrees with its facts"
 	if own == nil {
 		if own = rec.CheckDefinitions(); own != nil {
-			disagrees = "a question is not what its events in the decision log give"
+			disagrees = "a question, an expert or a withheld reason is not what its events in the decision log give"
 		}
 	}
 	w := rec.Workshop

@@ -297,7 +297,7 @@ func TestFingerprintQuestionChangedWithoutAnEvent(t *testing.T) {
 	}
 	code, out, errs := run("fingerprint", "--in", file)
 	if code != exitFailure || !strings.Contains(out, "after round 1 closed") ||
-		!strings.Contains(errs, "a question is not what its events in the decision log give: elicit: questions[0].upper: "+string(record.RuleDefinitionMismatch)) {
+		!strings.Contains(errs, "a question, an expert or a withheld reason is not what its events in the decision log give: elicit: questions[0].upper: "+string(record.RuleDefinitionMismatch)) {
 		t.Errorf("fingerprint: exit %d, %q %q", code, out, errs)
 	}
 	code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", file)

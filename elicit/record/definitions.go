@@ -17,9 +17,13 @@ import (
 // definition with each later correction, change of background and reveal
 // applied; by a question whose freeze (revealed_at, revealed_through:
 // which answers are scored) is not the one its first reveal's event
-// gives; or by an expert whose revocation, which keeps their answers
+// gives; by an expert whose revocation, which keeps their answers
 // out of the pool, is not the one their expert_revoked and
-// token_reissued events give.
+// token_reissued events give; by a question whose retirement, which
+// keeps it out of the pools and the scores, is not the one its
+// question_retired and question_restored events give; or by a revision
+// whose reason_withheld is not the one its reason_withheld and
+// reason_released events give.
 const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
 
 // CheckDefinitions checks each expert's revocation and each question
@@ -34,13 +38,30 @@ const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decis
 // in the log's order. A question whose truth_revealed event carries the
 // freeze it set (workshop.Reveal; reveals recorded before it did carry
 // none and are not checked for it) must have that revealed_at and
-// revealed_through. The chain makes the events tamper-evident; this
-// binds the questions' own rows, which are not chained, to them.
+// revealed_through. A question named by a question_added event must be
+// retired as its question_retired and question_restored events give,
+// and every revision's reason withheld as the reason_withheld and
+// reason_released events naming it give (not withheld when none does).
+// The chain makes the events tamper-evident; this binds the questions'
+// own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
 	for i, e := range r.Experts {
 		if revoked, ok := r.replayRevoked(e.ID); ok && revoked != e.Revoked {
 			return inputErr(fmt.Sprintf("experts[%d].revoked", i), RuleDefinitionMismatch,
 				"the record has %t, the expert's events give %t", e.Revoked, revoked)
+		}
+	}
+	retired, withheld := r.replayStates()
+	for i, q := range r.Questions {
+		if want, ok := retired[q.ID]; ok && want != q.Retired {
+			return inputErr(fmt.Sprintf("questions[%d].retired", i), RuleDefinitionMismatch,
+				"the record has %t, the question's events give %t", q.Retired, want)
+		}
+	}
+	for i, rv := range r.Revisions {
+		if want := withheld[rv.ID]; want != rv.ReasonWithheld {
+			return inputErr(fmt.Sprintf("revisions[%d].reason_withheld", i), RuleDefinitionMismatch,
+				"the record has %t, the events naming revision %d give %t", rv.ReasonWithheld, rv.ID, want)
 		}
 	}
 	for i, q := range r.Questions {
@@ -181,6 +202,35 @@ func timeText(t *time.Time) string {
 		return "none"
 	}
 	return t.UTC().Format(time.RFC3339Nano)
+}
+
+// replayStates replays the events, in the log's order, into each
+// question's retirement (only for a question a question_added event
+// names: added in use, retired by question_retired, brought back by
+// question_restored) and each revision's withheld reason (withheld by a
+// reason_withheld event naming it, shown again by reason_released).
+func (r Record) replayStates() (retired map[int64]bool, withheld map[int64]bool) {
+	retired, withheld = map[int64]bool{}, map[int64]bool{}
+	for _, e := range r.Events {
+		switch e.Kind {
+		case workshop.EventQuestionAdded:
+			if e.QuestionID != 0 {
+				retired[e.QuestionID] = false
+			}
+		case workshop.EventQuestionRetired, workshop.EventQuestionRestored:
+			if _, ok := retired[e.QuestionID]; ok {
+				retired[e.QuestionID] = e.Kind == workshop.EventQuestionRetired
+			}
+		case workshop.EventReasonWithheld, workshop.EventReasonReleased:
+			var d struct {
+				RevisionID int64 `json:"revision_id"`
+			}
+			if json.Unmarshal([]byte(e.Detail), &d) == nil && d.RevisionID != 0 {
+				withheld[d.RevisionID] = e.Kind == workshop.EventReasonWithheld
+			}
+		}
+	}
+	return retired, withheld
 }
 
 // replayRevoked is whether expert id is revoked as the events give it:
