@@ -58,8 +58,8 @@
 //	construction  str(method) f64(successes) f64(trials) f64(mean) f64(sd) f64(low)
 //	              f64(high) f64(coverage) f64(lower) f64(upper)
 //
-// A key absent from the JSON is its zero value (0, "", false, an empty
-// list, or opt absent). Left out, because they are derived or change
+// A key absent from the JSON, or null, is its zero value (0, "", false,
+// an empty list, or opt absent). Left out, because they are derived or change
 // after the fact without a new fact: a revision's fit (recomputed, and
 // may change with Parley's version), its sheet row (read from the
 // answers_imported event, which is chained), whether its reason is

@@ -12,7 +12,10 @@ writes a first line naming itself and Python's version, then, for each
 record, a line "# record NAME" (the file's base name), a
 line "start HEX" (h0), one line "KIND ID VALUE" for each fact in the
 chain's order, and a line "head HEX". It reads only the facts, never the
-record's own "chain" or "fingerprint" keys.
+record's own "chain" or "fingerprint" keys. A key that is null, or a null
+in a list, reads as the key left out, its zero value (0, "", false, an
+empty list, the zero time 0001-01-01T00:00:00Z), as Go's encoding/json
+reads it into the record.
 """
 
 import calendar
@@ -26,12 +29,22 @@ import sys
 DOMAIN = "parley record fingerprint v1"
 RANK = {"revision": 1, "weight_set": 2, "agreed_prior": 3, "study_data": 4, "event": 5}
 
+ZERO_TIME = "0001-01-01T00:00:00Z"
+
 TIME = re.compile(r"^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2})(?:\.(\d{1,9}))?(Z|[+-]\d{2}:\d{2})$")
+
+
+def get(d, key, zero):
+    """d[key], or zero when d is null, lacks the key or has it null."""
+    if d is None:
+        return zero
+    v = d.get(key)
+    return zero if v is None else v
 
 
 def parse_time(s):
     """RFC 3339 text -> (Unix seconds, nanoseconds), nanosecond exact."""
-    m = TIME.match(s)
+    m = TIME.match(ZERO_TIME if s is None else s)
     if not m:
         raise ValueError("not an RFC 3339 time: %r" % s)
     y, mo, d, h, mi, se = (int(m.group(i)) for i in range(1, 7))
@@ -49,16 +62,16 @@ class Enc:
         self.b = bytearray()
 
     def i64(self, n):
-        self.b += struct.pack(">q", int(n))
+        self.b += struct.pack(">q", int(0 if n is None else n))
 
     def f64(self, x):
-        self.b += struct.pack(">d", float(x))
+        self.b += struct.pack(">d", float(0 if x is None else x))
 
     def boolean(self, v):
         self.b += b"\x01" if v else b"\x00"
 
     def text(self, s):
-        raw = s.encode("utf-8")
+        raw = ("" if s is None else s).encode("utf-8")
         self.i64(len(raw))
         self.b += raw
 
@@ -78,67 +91,67 @@ class Enc:
             self.i64(n)
 
     def answer(self, a):
-        self.floats(a.get("values", []))
+        self.floats(get(a, "values", []))
         for k in ("lowest", "highest", "best", "confidence"):
-            self.f64(a.get(k, 0))
-        self.ints(a.get("counts", []))
-        self.boolean(a.get("percent", False))
+            self.f64(get(a, k, 0))
+        self.ints(get(a, "counts", []))
+        self.boolean(get(a, "percent", False))
 
 
 def revision(r):
     e = Enc()
     e.text("revision")
     for k in ("id", "question_id", "expert_id", "round"):
-        e.i64(r[k])
-    e.time(r["at"])
-    e.text(r.get("reason", ""))
-    e.answer(r.get("answer", {}))
-    e.text(r.get("entered_by") or "expert")
-    e.text(r.get("channel", ""))
+        e.i64(get(r, k, 0))
+    e.time(get(r, "at", ZERO_TIME))
+    e.text(get(r, "reason", ""))
+    e.answer(get(r, "answer", {}))
+    e.text(get(r, "entered_by", "") or "expert")
+    e.text(get(r, "channel", ""))
     return e.b
 
 
 def weight_set(w):
     e = Enc()
     e.text("weight_set")
-    e.i64(w.get("id", 0))
-    e.i64(w["workshop_id"])
-    e.text(w["scheme"])
-    by = sorted((int(k), v) for k, v in w.get("by_expert", {}).items())
+    e.i64(get(w, "id", 0))
+    e.i64(get(w, "workshop_id", 0))
+    e.text(get(w, "scheme", ""))
+    by = sorted((int(k), v) for k, v in get(w, "by_expert", {}).items())
     e.i64(len(by))
     for k, v in by:
         e.i64(k)
         e.f64(v)
-    e.text(w.get("reason", ""))
-    e.time(w["at"])
+    e.text(get(w, "reason", ""))
+    e.time(get(w, "at", ZERO_TIME))
     return e.b
 
 
 def agreed_prior(p):
     e = Enc()
     e.text("agreed_prior")
-    e.i64(p["id"])
-    e.i64(p["question_id"])
-    e.text(p["source"])
-    d = p["dist"]
+    e.i64(get(p, "id", 0))
+    e.i64(get(p, "question_id", 0))
+    e.text(get(p, "source", ""))
+    d = get(p, "dist", {})
     for k in ("alpha", "beta", "lower", "upper"):
-        e.f64(d.get(k, 0))
-    c = p.get("consensus")
+        e.f64(get(d, k, 0))
+    c = get(p, "consensus", None)
     e.boolean(c is not None)
     if c is not None:
         e.answer(c)
-    c = p.get("construction")
+    c = get(p, "construction", None)
     e.boolean(c is not None)
     if c is not None:
-        e.text(c.get("method", ""))
+        e.text(get(c, "method", ""))
         for k in ("successes", "trials", "mean", "sd", "low", "high", "coverage", "lower", "upper"):
-            e.f64(c.get(k, 0))
-    e.text(p.get("rationale", ""))
-    e.i64(p["round"])
-    e.boolean(p.get("while_round_open", False))
-    e.i64(p.get("weight_set_id", 0))
-    e.ints(p.get("pooled_revisions", []))
-    e.time(p["at"])
+            e.f64(get(c, k, 0))
+    e.text(get(p, "rationale", ""))
+    e.i64(get(p, "round", 0))
+    e.boolean(get(p, "while_round_open", False))
+    e.i64(get(p, "weight_set_id", 0))
+    e.ints(get(p, "pooled_revisions", []))
+    e.time(get(p, "at", ZERO_TIME))
     return e.b
 
 
@@ -146,45 +159,45 @@ def study_data(s):
     e = Enc()
     e.text("study_data")
     for k in ("id", "question_id", "successes", "trials"):
-        e.i64(s[k])
-    e.text(s.get("source", ""))
-    e.text(s.get("observed_on", ""))
-    e.time(s["at"])
+        e.i64(get(s, k, 0))
+    e.text(get(s, "source", ""))
+    e.text(get(s, "observed_on", ""))
+    e.time(get(s, "at", ZERO_TIME))
     return e.b
 
 
 def event(v):
     e = Enc()
     e.text("event")
-    e.i64(v["id"])
-    e.i64(v["workshop_id"])
-    e.i64(v.get("question_id", 0))
-    e.text(v["kind"])
-    e.time(v["at"])
-    e.text(v.get("reason", ""))
-    e.text(v.get("detail", ""))
+    e.i64(get(v, "id", 0))
+    e.i64(get(v, "workshop_id", 0))
+    e.i64(get(v, "question_id", 0))
+    e.text(get(v, "kind", ""))
+    e.time(get(v, "at", ZERO_TIME))
+    e.text(get(v, "reason", ""))
+    e.text(get(v, "detail", ""))
     return e.b
 
 
 def chain(rec):
-    w = rec["workshop"]
+    w = get(rec, "workshop", {})
     e = Enc()
     e.text(DOMAIN)
-    e.i64(w["id"])
-    e.time(w["created"])
+    e.i64(get(w, "id", 0))
+    e.time(get(w, "created", ZERO_TIME))
     start = hashlib.sha256(e.b).digest()
     facts = []
-    for r in rec.get("revisions", []):
-        facts.append(("revision", r["id"], r["at"], revision(r)))
-    for x in rec.get("weight_history", []):
-        facts.append(("weight_set", x.get("id", 0), x["at"], weight_set(x)))
-    for q in rec.get("questions", []):
-        for p in q.get("prior_history", []):
-            facts.append(("agreed_prior", p["id"], p["at"], agreed_prior(p)))
-    for s in rec.get("study_data", []):
-        facts.append(("study_data", s["id"], s["at"], study_data(s)))
-    for v in rec.get("events", []):
-        facts.append(("event", v["id"], v["at"], event(v)))
+    for r in get(rec, "revisions", []):
+        facts.append(("revision", get(r, "id", 0), get(r, "at", ZERO_TIME), revision(r)))
+    for x in get(rec, "weight_history", []):
+        facts.append(("weight_set", get(x, "id", 0), get(x, "at", ZERO_TIME), weight_set(x)))
+    for q in get(rec, "questions", []):
+        for p in get(q, "prior_history", []):
+            facts.append(("agreed_prior", get(p, "id", 0), get(p, "at", ZERO_TIME), agreed_prior(p)))
+    for s in get(rec, "study_data", []):
+        facts.append(("study_data", get(s, "id", 0), get(s, "at", ZERO_TIME), study_data(s)))
+    for v in get(rec, "events", []):
+        facts.append(("event", get(v, "id", 0), get(v, "at", ZERO_TIME), event(v)))
     facts.sort(key=lambda f: (parse_time(f[2]), RANK[f[0]], int(f[1])))
     h = start
     links = []
