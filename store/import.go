@@ -31,8 +31,20 @@ func (db *DB) Import(ctx context.Context, rec record.Record) (int64, error) {
 	if err != nil {
 		return 0, err
 	}
+	return db.ImportChecked(ctx, record.Checked{Record: rec, Fits: fits})
+}
+
+// ImportChecked is Import of a record already validated, with the fresh
+// fit of each revision its validation made (record.ParseChecked), so that
+// a record read and checked before the database is opened is not fitted
+// a second time.
+func (db *DB) ImportChecked(ctx context.Context, c record.Checked) (int64, error) {
+	rec, fits := c.Record, c.Fits
+	if len(fits) != len(rec.Revisions) {
+		return 0, fmt.Errorf("store: import: %d fits for %d revisions", len(fits), len(rec.Revisions))
+	}
 	var workshopID int64
-	err = db.write(ctx, func(tx *sql.Tx) error {
+	err := db.write(ctx, func(tx *sql.Tx) error {
 		imp := importer{ctx: ctx, tx: tx, questions: map[int64]int64{}, experts: map[int64]int64{}, revisions: map[int64]int64{},
 			weightSets: map[int64]int64{}}
 		var err error

@@ -41,7 +41,7 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 		r = f
 	}
 	// The record is parsed and validated before the database is touched.
-	rec, err := record.Parse(r)
+	rec, err := record.ParseChecked(r)
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
@@ -58,13 +58,13 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 // new one is built under a temporary name in the same folder and renamed
 // into place only when whole and closed: a failed import (a full disk, an
 // I/O error) removes it with its journal files and leaves nothing behind.
-func importInto(path string, rec record.Record) (int64, error) {
+func importInto(path string, rec record.Checked) (int64, error) {
 	if _, err := os.Stat(path); err == nil {
 		db, err := store.Open(path)
 		if err != nil {
 			return 0, err
 		}
-		id, err := db.Import(context.Background(), rec)
+		id, err := db.ImportChecked(context.Background(), rec)
 		return id, errors.Join(err, db.Close())
 	} else if !errors.Is(err, fs.ErrNotExist) {
 		return 0, err
@@ -84,7 +84,7 @@ func importInto(path string, rec record.Record) (int64, error) {
 		remove()
 		return 0, err
 	}
-	id, err := db.Import(context.Background(), rec)
+	id, err := db.ImportChecked(context.Background(), rec)
 	// Closing the only connection checkpoints the journal into the file
 	// and deletes it, so the renamed file is the whole database.
 	if err = errors.Join(err, db.Close()); err == nil {

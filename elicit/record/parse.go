@@ -46,6 +46,27 @@ func Parse(rd io.Reader) (Record, error) {
 	return r, r.Validate()
 }
 
+// Checked is a record that passed Validate, with the fresh fit of each
+// of its revisions, in the record's order (ValidateFits).
+type Checked struct {
+	Record
+	Fits []elicit.Fit
+}
+
+// ParseChecked is Parse that also returns the fresh fits its validation
+// made, for an import to keep without fitting every revision again.
+func ParseChecked(rd io.Reader) (Checked, error) {
+	r, err := Decode(rd)
+	if err != nil {
+		return Checked{}, err
+	}
+	fits, err := r.ValidateFits()
+	if err != nil {
+		return Checked{}, err
+	}
+	return Checked{Record: r, Fits: fits}, nil
+}
+
 // Decode is Parse without Validate: the record read strictly as JSON in
 // its layout, its contents not yet checked. parley fingerprint reads a
 // record so, as it needs only the facts the chain runs over.
