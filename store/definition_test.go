@@ -20,7 +20,8 @@ import (
 // are not chained, its events are. So is an expert revoked or let back
 // without an event (a revoked expert's answers leave the pool), and a
 // question retired or brought back without one (a retired question
-// leaves the pools and the scores).
+// leaves the pools and the scores), and an expert renamed (their
+// answers would read as another's).
 func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	ctx := context.Background()
 	db := newDB(t)
@@ -59,6 +60,8 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		{`UPDATE questions SET probs = '[0.1,0.5,0.9]' WHERE id = ?`, "questions[0].probs"},
 		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[0].retired"},
 		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[1].retired"},
+		{`UPDATE experts SET name = 'Piet (invented)' WHERE id = ?`, "experts[0].name"},
+		{`UPDATE experts SET affiliation = 'Water board' WHERE id = ?`, "experts[1].affiliation"},
 		{`UPDATE experts SET revoked = 0 WHERE id = ?`, "experts[0].revoked"},
 		{`UPDATE experts SET revoked = 1 WHERE id = ?`, "experts[1].revoked"},
 	} {

@@ -34,9 +34,11 @@ func (db *DB) AddExpert(ctx context.Context, e *workshop.Expert, tokenHash []byt
 		if err != nil {
 			return fmt.Errorf("store: add expert: %w", err)
 		}
+		added := *e
+		added.ID = id
 		if err := insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: e.WorkshopID, Kind: workshop.EventExpertAdded, At: created,
-			Detail: fmt.Sprintf(`{"expert_id":%d}`, id),
+			Detail: added.AddedDetail(),
 		}); err != nil {
 			return err
 		}

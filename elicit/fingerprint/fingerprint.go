@@ -65,10 +65,11 @@
 // answers_imported event, which is chained), whether its reason is
 // withheld (each withholding is a chained event), and a weight set's
 // basis (computed from chained revisions and from true values the record
-// shows only once revealed). Questions, experts and the workshop's own
-// text can be corrected, each correction with its chained event; a
-// question's definition is its question_added event's detail, and
-// record.CheckDefinitions holds its row to its events.
+// shows only once revealed). Questions and the workshop's own text can
+// be corrected, each correction with its chained event; a question's
+// definition is its question_added event's detail, an expert's name is
+// their expert_added event's, and record.CheckDefinitions holds their
+// rows to their events.
 //
 // testdata/fingerprint/chain.py recomputes the chain of a record file
 // with Python's standard library alone.

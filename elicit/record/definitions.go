@@ -17,7 +17,9 @@ import (
 // definition with each later correction, change of background and reveal
 // applied; by a question whose freeze (revealed_at, revealed_through:
 // which answers are scored) is not the one its first reveal's event
-// gives; by an expert whose revocation, which keeps their answers
+// gives; by an expert whose name, affiliation or expertise is not the
+// one their expert_added event gives (no correction changes them); by an
+// expert whose revocation, which keeps their answers
 // out of the pool, is not the one their expert_revoked and
 // token_reissued events give; by a question whose retirement, which
 // keeps it out of the pools and the scores, is not the one its
@@ -45,7 +47,18 @@ const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decis
 // The chain makes the events tamper-evident; this binds the questions'
 // own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
+	added := r.expertsAdded()
 	for i, e := range r.Experts {
+		if a, ok := added[e.ID]; ok {
+			for _, f := range []struct{ name, got, want string }{
+				{"name", e.Name, *a.Name}, {"affiliation", e.Affiliation, a.Affiliation}, {"expertise", e.Expertise, a.Expertise},
+			} {
+				if f.got != f.want {
+					return inputErr(fmt.Sprintf("experts[%d].%s", i, f.name), RuleDefinitionMismatch,
+						"the record has %s, the expert's expert_added event gives %s", jsonText(f.got), jsonText(f.want))
+				}
+			}
+		}
 		if revoked, ok := r.replayRevoked(e.ID); ok && revoked != e.Revoked {
 			return inputErr(fmt.Sprintf("experts[%d].revoked", i), RuleDefinitionMismatch,
 				"the record has %t, the expert's events give %t", e.Revoked, revoked)
@@ -202,6 +215,19 @@ func timeText(t *time.Time) string {
 		return "none"
 	}
 	return t.UTC().Format(time.RFC3339Nano)
+}
+
+// expertsAdded are the expert_added events that carry the name the
+// expert was added with (workshop.ExpertAdded), by expert id.
+func (r Record) expertsAdded() map[int64]workshop.ExpertAdded {
+	out := map[int64]workshop.ExpertAdded{}
+	for _, e := range r.Events {
+		var d workshop.ExpertAdded
+		if e.Kind == workshop.EventExpertAdded && json.Unmarshal([]byte(e.Detail), &d) == nil && d.Name != nil {
+			out[d.ExpertID] = d
+		}
+	}
+	return out
 }
 
 // replayStates replays the events, in the log's order, into each
