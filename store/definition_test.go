@@ -3,6 +3,7 @@ package store
 import (
 	"bytes"
 	"context"
+	"encoding/json"
 	"errors"
 	"fmt"
 	"strings"
@@ -234,4 +235,51 @@ func TestReasonWithheldWithoutAnEventIsRefused(t *testing.T) {
 		revs[0].ID, formatTime(now()))
 	must(t, err)
 	refused(exportJSON(t, db, p.w.ID), "revisions[0].reason_withheld")
+}
+
+// The events are replayed in the order they were recorded, by their ids,
+// which the chain covers: the order of the record's list is not chained,
+// so a record whose list was reordered is refused. Reordered, an expert's
+// revocation and the new link that lifted it had replayed as a
+// revocation still in force, and the expert could be marked revoked (their
+// answers out of the pool) with the chain and every check intact.
+func TestReorderedEventsAreRefused(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	e := p.experts[1]
+	must(t, db.RevokeExpert(ctx, e.ID, "lost their link"))
+	must(t, db.ReissueToken(ctx, e.ID, []byte("new token"), "lost their link"))
+	var doc map[string]any
+	must(t, json.Unmarshal(exportJSON(t, db, p.w.ID), &doc))
+	events := doc["events"].([]any)
+	var revoked, reissued int
+	for i, ev := range events {
+		switch ev.(map[string]any)["kind"] {
+		case string(workshop.EventExpertRevoked):
+			revoked = i
+		case string(workshop.EventTokenReissued):
+			reissued = i
+		}
+	}
+	events[revoked], events[reissued] = events[reissued], events[revoked]
+	for _, x := range doc["experts"].([]any) {
+		if m := x.(map[string]any); m["id"] == float64(e.ID) {
+			m["revoked"] = true
+		}
+	}
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Decode(bytes.NewReader(b))
+	must(t, err)
+	if err := rec.CheckChain(); err != nil {
+		t.Fatalf("the reordered record's chain: %v (the list's order is not chained)", err)
+	}
+	var ie *elicit.InputError
+	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != fmt.Sprintf("events[%d].id", min(revoked, reissued)+1) {
+		t.Errorf("the reordered record reads with %v, want events[%d].id refused", err, min(revoked, reissued)+1)
+	}
+	if err := rec.CheckDefinitions(); err == nil {
+		t.Error("CheckDefinitions (parley fingerprint's check) takes the reordered record")
+	}
 }

@@ -28,8 +28,14 @@ import (
 // reason_released events give.
 const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
 
+// RuleEventOrder is broken by a record whose events are not listed
+// oldest first, by id: the order its decisions replay in.
+const RuleEventOrder elicit.Rule = "must list the events oldest first, in ascending id (the order they were recorded)"
+
 // CheckDefinitions checks each expert's revocation and each question
-// against their chained events. An expert named by an expert_added event
+// against their chained events, replayed in the order they were recorded:
+// a record must list its events by ascending id (RuleEventOrder), since
+// the chain covers each event's id but not the list's order. An expert named by an expert_added event
 // must be revoked as their expert_revoked and token_reissued events give.
 // A
 // question whose question_added event carries its definition
@@ -47,6 +53,13 @@ const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decis
 // The chain makes the events tamper-evident; this binds the questions'
 // own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
+	// The events replay in the order they were recorded, their ids' (as
+	// the store lists them): the ids are chained, the list's order is not.
+	for i := 1; i < len(r.Events); i++ {
+		if prev, e := r.Events[i-1], r.Events[i]; e.ID <= prev.ID {
+			return inputErr(fmt.Sprintf("events[%d].id", i), RuleEventOrder, "event %d after event %d", e.ID, prev.ID)
+		}
+	}
 	added := r.expertsAdded()
 	for i, e := range r.Experts {
 		if a, ok := added[e.ID]; ok {
