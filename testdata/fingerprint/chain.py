@@ -3,8 +3,8 @@
 
 Written apart from Parley's Go code, from the encoding as DEVELOPERS.md
 ("The record's fingerprint") and elicit/fingerprint's doc comment describe
-it, with Python's standard library only (json, hashlib, struct, re,
-calendar). Made with Python 3.11.2 (Debian's /usr/bin/python3).
+it, with Python's standard library only (json, hashlib, struct, re).
+Made with Python 3.11.2 (Debian's /usr/bin/python3).
 
     /usr/bin/python3 testdata/fingerprint/chain.py RECORD.json ... > OUT
 
@@ -18,7 +18,6 @@ empty list, the zero time 0001-01-01T00:00:00Z), as Go's encoding/json
 reads it into the record.
 """
 
-import calendar
 import hashlib
 import json
 import os
@@ -31,7 +30,20 @@ RANK = {"revision": 1, "weight_set": 2, "agreed_prior": 3, "study_data": 4, "eve
 
 ZERO_TIME = "0001-01-01T00:00:00Z"
 
-TIME = re.compile(r"^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2})(?:\.(\d{1,9}))?(Z|[+-]\d{2}:\d{2})$")
+# As Go's time package reads a JSON time: a fraction of any length after
+# "." or ",", of which the first 9 digits count (the rest are cut off).
+TIME = re.compile(r"^(\d{4})-(\d{2})-(\d{2})T(\d{2}):(\d{2}):(\d{2})(?:[.,](\d+))?(Z|[+-]\d{2}:\d{2})$")
+
+
+def days_from_civil(y, m, d):
+    """Days from 1970-01-01 to a proleptic Gregorian date, any year (year 0
+    too, which calendar.timegm refuses): H. Hinnant's days_from_civil."""
+    y -= m <= 2
+    era = y // 400
+    yoe = y - era * 400
+    doy = (153 * (m + (-3 if m > 2 else 9)) + 2) // 5 + d - 1
+    doe = yoe * 365 + yoe // 4 - yoe // 100 + doy
+    return era * 146097 + doe - 719468
 
 
 def get(d, key, zero):
@@ -48,8 +60,8 @@ def parse_time(s):
     if not m:
         raise ValueError("not an RFC 3339 time: %r" % s)
     y, mo, d, h, mi, se = (int(m.group(i)) for i in range(1, 7))
-    nanos = int((m.group(7) or "").ljust(9, "0"))
-    secs = calendar.timegm((y, mo, d, h, mi, se, 0, 0, 0))
+    nanos = int((m.group(7) or "")[:9].ljust(9, "0"))
+    secs = days_from_civil(y, mo, d) * 86400 + h * 3600 + mi * 60 + se
     off = m.group(8)
     if off != "Z":
         sign = 1 if off[0] == "+" else -1
