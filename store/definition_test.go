@@ -283,3 +283,39 @@ func TestReorderedEventsAreRefused(t *testing.T) {
 		t.Error("CheckDefinitions (parley fingerprint's check) takes the reordered record")
 	}
 }
+
+// A record whose question's prior_history was reversed, its agreed_prior
+// made the earlier agreement (as a record written before the later one
+// shows it), is refused: the chain covers each agreement but not the
+// history's order, and the record had read with its chain intact and the
+// earlier prior as the question's current one.
+func TestReorderedPriorHistoryIsRefused(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	q := p.qs[0]
+	agree := func(a, b float64) []byte {
+		must(t, db.AgreePrior(ctx, &workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromPool,
+			Dist: elicit.Unit(elicit.Beta{Alpha: a, Beta: b}), Rationale: "the pool (invented)", RoundOpen: true}))
+		return exportJSON(t, db, p.w.ID)
+	}
+	first, second := agree(4, 14), agree(5, 15)
+	var was, doc map[string]any
+	must(t, json.Unmarshal(first, &was))
+	must(t, json.Unmarshal(second, &doc))
+	rq := doc["questions"].([]any)[0].(map[string]any)
+	h := rq["prior_history"].([]any)
+	h[0], h[1] = h[1], h[0]
+	rq["agreed_prior"] = was["questions"].([]any)[0].(map[string]any)["agreed_prior"]
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Decode(bytes.NewReader(b))
+	must(t, err)
+	if err := rec.CheckChain(); err != nil {
+		t.Fatalf("the reordered record's chain: %v (the history's order is not chained)", err)
+	}
+	var ie *elicit.InputError
+	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "questions[0].prior_history[1].id" || ie.Rule != record.RulePriorMismatch {
+		t.Errorf("the reordered record reads with %v, want questions[0].prior_history[1].id refused", err)
+	}
+}

@@ -79,6 +79,13 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			disagrees = "a question, an expert or a withheld reason is not what its events in the decision log give"
 		}
 	}
+	// A question's agreed_prior, the record's headline number, is a copy
+	// of its history's last agreement, which the chain covers.
+	if own == nil {
+		if own = rec.CheckCurrentPriors(); own != nil {
+			disagrees = "a question's agreed prior is not the last agreement of its history"
+		}
+	}
 	w := rec.Workshop
 	fmt.Fprintf(stdout, "Workshop %d, %q: record fingerprints (the first 64 bits of each value)\n", w.ID, w.Title)
 	if noted == nil {

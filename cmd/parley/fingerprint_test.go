@@ -7,6 +7,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -303,5 +304,49 @@ func TestFingerprintQuestionChangedWithoutAnEvent(t *testing.T) {
 	code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", file)
 	if code != exitBadInput || !strings.Contains(errs, "questions[0]") {
 		t.Errorf("import: exit %d: %s", code, errs)
+	}
+}
+
+// A question's agreed_prior, the record's headline number, is a copy of
+// the last agreement of its prior_history that the chain does not cover;
+// changed in the JSON, or made another agreement by reversing the history
+// (whose order the chain does not cover either), parley fingerprint had
+// said the record was as noted. Now it exits 1 naming the field, and the
+// import refuses the file.
+func TestFingerprintAgreedPriorChanged(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	doc, err := os.ReadFile(file)
+	check(t, err)
+	for _, c := range []struct {
+		name, field string
+		change      func(q map[string]any)
+	}{
+		{"rationale", "questions[0].agreed_prior", func(q map[string]any) {
+			q["agreed_prior"].(map[string]any)["rationale"] = "the pool, unchanged"
+		}},
+		{"history reversed", "questions[0].prior_history[1].id", func(q map[string]any) {
+			h := q["prior_history"].([]any)
+			slices.Reverse(h)
+		}},
+	} {
+		var rec map[string]any
+		check(t, json.Unmarshal(doc, &rec))
+		c.change(rec["questions"].([]any)[0].(map[string]any))
+		b, err := json.Marshal(rec)
+		check(t, err)
+		forged := filepath.Join(t.TempDir(), "forged.json")
+		check(t, os.WriteFile(forged, b, 0o644))
+		code, _, errs := run("fingerprint", "--in", forged)
+		if code != exitFailure || !strings.Contains(errs, "a question's agreed prior is not the last agreement of its history: elicit: "+c.field+": ") {
+			t.Errorf("%s: fingerprint: exit %d, %q", c.name, code, errs)
+		}
+		code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", forged)
+		if code != exitBadInput || !strings.Contains(errs, c.field) {
+			t.Errorf("%s: import: exit %d: %s", c.name, code, errs)
+		}
 	}
 }

@@ -247,9 +247,9 @@ func (r Record) validate(fits []elicit.Fit) error {
 				return err
 			}
 		}
-		if err := checkCurrentPrior(fmt.Sprintf("questions[%d].agreed_prior", i), q); err != nil {
-			return err
-		}
+	}
+	if err := r.CheckCurrentPriors(); err != nil {
+		return err
 	}
 	// Last, so that every fact is otherwise sound: a caller that reads
 	// the chain alone (parley fingerprint) can tell a changed fact from a
@@ -335,6 +335,28 @@ const RulePriorMismatch elicit.Rule = "must be the last agreement of prior_histo
 // question's span for a value near 0): far above the quantiles' accuracy
 // in any version of Parley, far below a printed digit.
 const summaryAgreement = 1e-6
+
+// CheckCurrentPriors checks each question's prior_history and the
+// agreed_prior beside it: the history runs oldest first, in ascending id,
+// as the store keeps it (the chain covers each agreement but not the
+// list's order), and the agreed_prior, a copy the chain does not cover,
+// is the history's last with its own Beta's summary (checkCurrentPrior).
+// Both are refused with RulePriorMismatch. Validate runs it, and so does
+// parley fingerprint, for the record's headline priors.
+func (r Record) CheckCurrentPriors() error {
+	for i, q := range r.Questions {
+		for j := 1; j < len(q.PriorHistory); j++ {
+			if prev, ap := q.PriorHistory[j-1], q.PriorHistory[j]; ap.ID <= prev.ID {
+				return inputErr(fmt.Sprintf("questions[%d].prior_history[%d].id", i, j), RulePriorMismatch,
+					"prior %d after prior %d: the history runs oldest first, in ascending id", ap.ID, prev.ID)
+			}
+		}
+		if err := checkCurrentPrior(fmt.Sprintf("questions[%d].agreed_prior", i), q); err != nil {
+			return err
+		}
+	}
+	return nil
+}
 
 // checkCurrentPrior checks a question's agreed_prior against its history
 // and its own Beta. A record may leave it out; then the history's last is
