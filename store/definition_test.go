@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -317,5 +318,33 @@ func TestReorderedPriorHistoryIsRefused(t *testing.T) {
 	var ie *elicit.InputError
 	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "questions[0].prior_history[1].id" || ie.Rule != record.RulePriorMismatch {
 		t.Errorf("the reordered record reads with %v, want questions[0].prior_history[1].id refused", err)
+	}
+}
+
+// The record's weights in force are a copy of weight_history's last set,
+// which the chain covers: a record whose copy says other weights under
+// the same set's id is refused.
+func TestWeightsInForceAreTheHistorysLast(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsCustom, Reason: "Ada ran the audits (invented)",
+		ByExpert: map[int64]float64{p.experts[0].ID: 3, p.experts[1].ID: 1, p.experts[2].ID: 1}}))
+	var doc map[string]any
+	must(t, json.Unmarshal(exportJSON(t, db, p.w.ID), &doc))
+	doc["weights"].(map[string]any)["by_expert"] = map[string]any{strconv.FormatInt(p.experts[1].ID, 10): 5}
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Decode(bytes.NewReader(b))
+	must(t, err)
+	if err := rec.CheckChain(); err != nil {
+		t.Fatalf("the changed record's chain: %v (the copy in force is not chained)", err)
+	}
+	var ie *elicit.InputError
+	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "weights" {
+		t.Errorf("the record reads with %v, want weights refused", err)
+	}
+	if err := rec.CheckInForce(); err == nil {
+		t.Error("CheckInForce (parley fingerprint's check) takes the changed weights")
 	}
 }

@@ -79,11 +79,12 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			disagrees = "a question, an expert or a withheld reason is not what its events in the decision log give"
 		}
 	}
-	// A question's agreed_prior, the record's headline number, is a copy
-	// of its history's last agreement, which the chain covers.
+	// The weights in force and each question's agreed_prior, the
+	// record's headline numbers, are copies of their histories' last,
+	// which the chain covers.
 	if own == nil {
-		if own = rec.CheckCurrentPriors(); own != nil {
-			disagrees = "a question's agreed prior is not the last agreement of its history"
+		if own = rec.CheckInForce(); own != nil {
+			disagrees = "the weights or an agreed prior in force are not the last of their history"
 		}
 	}
 	w := rec.Workshop

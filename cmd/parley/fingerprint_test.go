@@ -341,7 +341,7 @@ func TestFingerprintAgreedPriorChanged(t *testing.T) {
 		forged := filepath.Join(t.TempDir(), "forged.json")
 		check(t, os.WriteFile(forged, b, 0o644))
 		code, _, errs := run("fingerprint", "--in", forged)
-		if code != exitFailure || !strings.Contains(errs, "a question's agreed prior is not the last agreement of its history: elicit: "+c.field+": ") {
+		if code != exitFailure || !strings.Contains(errs, "the weights or an agreed prior in force are not the last of their history: elicit: "+c.field+": ") {
 			t.Errorf("%s: fingerprint: exit %d, %q", c.name, code, errs)
 		}
 		code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", forged)

@@ -2,6 +2,7 @@ package record
 
 import (
 	"fmt"
+	"maps"
 	"math"
 	"reflect"
 	"slices"
@@ -248,7 +249,7 @@ func (r Record) validate(fits []elicit.Fit) error {
 			}
 		}
 	}
-	if err := r.CheckCurrentPriors(); err != nil {
+	if err := r.CheckInForce(); err != nil {
 		return err
 	}
 	// Last, so that every fact is otherwise sound: a caller that reads
@@ -336,13 +337,37 @@ const RulePriorMismatch elicit.Rule = "must be the last agreement of prior_histo
 // in any version of Parley, far below a printed digit.
 const summaryAgreement = 1e-6
 
+// CheckInForce checks the record's copies of what is in force, which the
+// chain does not cover, against the chained histories they copy: the
+// weights against weight_history's last set (RuleInForce at "weights")
+// and each question's agreed_prior against its prior_history
+// (CheckCurrentPriors). Validate runs it, and so does parley fingerprint.
+func (r Record) CheckInForce() error {
+	if n := len(r.WeightHistory); n > 0 && !sameSet(r.Weights, r.WeightHistory[n-1]) {
+		last := r.WeightHistory[n-1]
+		return inputErr("weights", RuleInForce, "the record says set %d, %s, by expert %v; weight_history's last is set %d, %s, by expert %v",
+			r.Weights.ID, r.Weights.Scheme, r.Weights.ByExpert, last.ID, last.Scheme, last.ByExpert)
+	}
+	return r.CheckCurrentPriors()
+}
+
+// sameSet is whether a and b are the same weight set in what the chain
+// covers of one (its basis, derived, is checked on its own).
+func sameSet(a, b workshop.Weights) bool {
+	return a.ID == b.ID && a.WorkshopID == b.WorkshopID && a.Scheme == b.Scheme && a.Reason == b.Reason &&
+		a.At.Equal(b.At) && maps.Equal(a.ByExpert, b.ByExpert)
+}
+
+// RuleInForce is broken by weights in force that are not the last set
+// of weight_history.
+const RuleInForce elicit.Rule = "must be the last set of weight_history"
+
 // CheckCurrentPriors checks each question's prior_history and the
 // agreed_prior beside it: the history runs oldest first, in ascending id,
 // as the store keeps it (the chain covers each agreement but not the
 // list's order), and the agreed_prior, a copy the chain does not cover,
 // is the history's last with its own Beta's summary (checkCurrentPrior).
-// Both are refused with RulePriorMismatch. Validate runs it, and so does
-// parley fingerprint, for the record's headline priors.
+// Both are refused with RulePriorMismatch.
 func (r Record) CheckCurrentPriors() error {
 	for i, q := range r.Questions {
 		for j := 1; j < len(q.PriorHistory); j++ {
