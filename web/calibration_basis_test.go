@@ -314,10 +314,16 @@ func TestQuestionExportUnderPerformanceWeights(t *testing.T) {
 		scored[a.RevisionID] = true
 	}
 	earlier := rec
-	earlier.Revisions = nil
+	earlier.Revisions, earlier.Events = nil, nil
 	for _, rv := range rec.Revisions {
 		if rv.QuestionID == p.targets[0].ID || scored[rv.ID] {
 			earlier.Revisions = append(earlier.Revisions, rv)
+		}
+	}
+	// It kept only the target's events and the workshop's.
+	for _, e := range rec.Events {
+		if e.QuestionID == 0 || e.QuestionID == p.targets[0].ID {
+			earlier.Events = append(earlier.Events, e)
 		}
 	}
 	var buf strings.Builder

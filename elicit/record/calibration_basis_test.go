@@ -2,6 +2,7 @@ package record
 
 import (
 	"errors"
+	"fmt"
 	"math"
 	"slices"
 	"strings"
@@ -187,6 +188,15 @@ func TestValidateRefusesABrokenWeightHistory(t *testing.T) {
 // answers their basis scored, and is a valid record on its own.
 func TestForQuestionKeepsTheEvidenceBehindItsWeights(t *testing.T) {
 	src, b := basisWorkshop(t, true)
+	// A scored answer's reason withheld, with its event: the narrowed
+	// record keeps the event with the answer.
+	for i, rv := range src.Revisions {
+		if rv.ID == b.CalibrationAnswers[0].RevisionID {
+			src.Revisions[i].Reason, src.Revisions[i].ReasonWithheld = "names a supplier (invented)", true
+			src.Events = append(src.Events, workshop.Event{ID: 1, WorkshopID: 9, QuestionID: rv.QuestionID, Kind: workshop.EventReasonWithheld,
+				At: t0, Reason: "names a supplier", Detail: fmt.Sprintf(`{"revision_id":%d}`, rv.ID)})
+		}
+	}
 	rec, err := Build(src, t0)
 	if err != nil {
 		t.Fatal(err)

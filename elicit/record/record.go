@@ -432,10 +432,10 @@ func FitOf(f elicit.Fit) *Fit {
 // ForQuestion narrows the record to one question: its revisions, its
 // events and the workshop-wide events. The panel and weights stay whole,
 // and so does the evidence behind any performance weights (the
-// calibration questions their bases scored or left out, the revisions
-// they scored, and the revision each such question's freeze names), so
-// the narrowed record still reproduces the question's pools and reads
-// back.
+// calibration questions their bases scored or left out with their
+// events, the revisions they scored, and the revision each such
+// question's freeze names), so the narrowed record still reproduces the
+// question's pools and reads back.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events = nil, nil, nil
@@ -479,7 +479,9 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 		}
 	}
 	for _, e := range r.Events {
-		if e.QuestionID == 0 || e.QuestionID == id {
+		// The kept questions' events too: the decisions on the evidence
+		// (a scored answer's reason withheld, a reveal) go with it.
+		if e.QuestionID == 0 || keepQ[e.QuestionID] {
 			out.Events = append(out.Events, e)
 		}
 	}
