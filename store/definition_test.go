@@ -348,3 +348,38 @@ func TestWeightsInForceAreTheHistorysLast(t *testing.T) {
 		t.Error("CheckInForce (parley fingerprint's check) takes the changed weights")
 	}
 }
+
+// A record must list its revisions by ascending id: an expert's current
+// answer is their revision with the highest id, and an import that
+// numbers the rows anew numbers them in the list's order, which the chain
+// does not cover. A record with an expert's two answers swapped in the
+// list had read, and imported beside its own workshop (its ids taken),
+// made the earlier answer the expert's current one.
+func TestReorderedRevisionsAreRefused(t *testing.T) {
+	ctx := context.Background()
+	db := newDB(t)
+	p := seed(t, db)
+	for _, best := range []float64{0.2, 0.3} {
+		rv := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID,
+			Answer: workshop.Answer{Values: []float64{best / 2, best, best + 0.3}}}
+		must(t, db.SaveRevision(ctx, &rv))
+	}
+	var doc map[string]any
+	must(t, json.Unmarshal(exportJSON(t, db, p.w.ID), &doc))
+	revs := doc["revisions"].([]any)
+	revs[0], revs[1] = revs[1], revs[0]
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Decode(bytes.NewReader(b))
+	must(t, err)
+	if err := rec.CheckChain(); err != nil {
+		t.Fatalf("the reordered record's chain: %v (the list's order is not chained)", err)
+	}
+	var ie *elicit.InputError
+	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "revisions[1].id" {
+		t.Errorf("the reordered record reads with %v, want revisions[1].id refused", err)
+	}
+	if _, err := db.Import(ctx, rec); err == nil {
+		t.Error("the reordered record was imported")
+	}
+}

@@ -28,13 +28,16 @@ import (
 // reason_released events give.
 const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
 
-// RuleEventOrder is broken by a record whose events are not listed
-// oldest first, by id: the order its decisions replay in.
-const RuleEventOrder elicit.Rule = "must list the events oldest first, in ascending id (the order they were recorded)"
+// RuleOldestFirst is broken by a record whose events or revisions are
+// not listed oldest first, by id: the order the decisions replay in, and
+// the order an import that numbers rows anew gives them their ids (an
+// expert's current answer is their revision with the highest id). The
+// ids are chained; the lists' order is not.
+const RuleOldestFirst elicit.Rule = "must be listed oldest first, in ascending id (the order they were recorded)"
 
 // CheckDefinitions checks each expert's revocation and each question
 // against their chained events, replayed in the order they were recorded:
-// a record must list its events by ascending id (RuleEventOrder), since
+// a record must list its events by ascending id (RuleOldestFirst), since
 // the chain covers each event's id but not the list's order. An expert named by an expert_added event
 // must be revoked as their expert_revoked and token_reissued events give.
 // A
@@ -57,7 +60,7 @@ func (r Record) CheckDefinitions() error {
 	// the store lists them): the ids are chained, the list's order is not.
 	for i := 1; i < len(r.Events); i++ {
 		if prev, e := r.Events[i-1], r.Events[i]; e.ID <= prev.ID {
-			return inputErr(fmt.Sprintf("events[%d].id", i), RuleEventOrder, "event %d after event %d", e.ID, prev.ID)
+			return inputErr(fmt.Sprintf("events[%d].id", i), RuleOldestFirst, "event %d after event %d", e.ID, prev.ID)
 		}
 	}
 	added := r.expertsAdded()

@@ -128,6 +128,9 @@ func (r Record) validate(fits []elicit.Fit) error {
 		if err := checkID(p+".id", rv.ID, seenR); err != nil {
 			return err
 		}
+		if i > 0 && rv.ID <= r.Revisions[i-1].ID {
+			return inputErr(p+".id", RuleOldestFirst, "revision %d after revision %d", rv.ID, r.Revisions[i-1].ID)
+		}
 		seenR[rv.ID] = true
 		q, ok := questions[rv.QuestionID]
 		if !ok {
