@@ -63,7 +63,7 @@ func (r Record) CheckDefinitions() error {
 			return inputErr(fmt.Sprintf("events[%d].id", i), RuleOldestFirst, "event %d after event %d", e.ID, prev.ID)
 		}
 	}
-	added := r.expertsAdded()
+	added, revocations := r.expertsAdded(), r.replayRevoked()
 	for i, e := range r.Experts {
 		if a, ok := added[e.ID]; ok {
 			for _, f := range []struct{ name, got, want string }{
@@ -75,7 +75,7 @@ func (r Record) CheckDefinitions() error {
 				}
 			}
 		}
-		if revoked, ok := r.replayRevoked(e.ID); ok && revoked != e.Revoked {
+		if revoked, ok := revocations[e.ID]; ok && revoked != e.Revoked {
 			return inputErr(fmt.Sprintf("experts[%d].revoked", i), RuleDefinitionMismatch,
 				"the record has %t, the expert's events give %t", e.Revoked, revoked)
 		}
@@ -275,28 +275,36 @@ func (r Record) replayStates() (retired map[int64]bool, withheld map[int64]bool)
 	return retired, withheld
 }
 
-// replayRevoked is whether expert id is revoked as the events give it:
-// added (expert_added naming them) not revoked, each expert_revoked
-// revoking and each token_reissued lifting it; ok false when no
-// expert_added event names them.
-func (r Record) replayRevoked(id int64) (revoked, ok bool) {
+// replayRevoked is each expert's revocation as the events give it, in
+// one pass over them: added (expert_added naming them) not revoked, each
+// expert_revoked revoking and each token_reissued lifting it; an expert
+// no expert_added event names is not in the map.
+func (r Record) replayRevoked() map[int64]bool {
+	out := map[int64]bool{}
 	for _, e := range r.Events {
+		switch e.Kind {
+		case workshop.EventExpertAdded, workshop.EventExpertRevoked, workshop.EventTokenReissued:
+		default:
+			continue
+		}
 		var d struct {
 			ExpertID int64 `json:"expert_id"`
 		}
-		if json.Unmarshal([]byte(e.Detail), &d) != nil || d.ExpertID != id {
+		if json.Unmarshal([]byte(e.Detail), &d) != nil {
 			continue
 		}
-		switch e.Kind {
-		case workshop.EventExpertAdded:
-			revoked, ok = false, true
-		case workshop.EventExpertRevoked:
-			revoked = true
-		case workshop.EventTokenReissued:
-			revoked = false
+		_, added := out[d.ExpertID]
+		switch {
+		case e.Kind == workshop.EventExpertAdded:
+			out[d.ExpertID] = false
+		case !added:
+		case e.Kind == workshop.EventExpertRevoked:
+			out[d.ExpertID] = true
+		case e.Kind == workshop.EventTokenReissued:
+			out[d.ExpertID] = false
 		}
 	}
-	return revoked, ok
+	return out
 }
 
 func jsonText(v any) string {
