@@ -48,6 +48,8 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 	must(t, db.RevokeExpert(ctx, experts[0].ID, "left the panel"))
 	must(t, db.RevokeExpert(ctx, experts[1].ID, "lost their link"))
 	must(t, db.ReissueToken(ctx, experts[1].ID, []byte("new token"), "lost their link"))
+	w.Decision = "which culverts to clear first (invented)"
+	must(t, db.UpdateWorkshop(ctx, w))
 	parse := func() error {
 		_, err := record.Parse(bytes.NewReader(exportJSON(t, db, w.ID)))
 		return err
@@ -60,6 +62,8 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		{`UPDATE questions SET log_uniform_background = 0 WHERE id = ?`, "questions[1].log_uniform_background"},
 		{`UPDATE questions SET true_value = 400 WHERE id = ?`, "questions[1].true_value"},
 		{`UPDATE questions SET probs = '[0.1,0.5,0.9]' WHERE id = ?`, "questions[0].probs"},
+		{`UPDATE workshops SET title = 'Culvert clearing (invented)' WHERE id = ?`, "workshop.title"},
+		{`UPDATE workshops SET decision = 'which roads to close' WHERE id = ?`, "workshop.decision"},
 		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[0].retired"},
 		{`UPDATE questions SET retired = 1 WHERE id = ?`, "questions[1].retired"},
 		{`UPDATE experts SET name = 'Piet (invented)' WHERE id = ?`, "experts[0].name"},
@@ -68,8 +72,11 @@ func TestQuestionChangedWithoutAnEventIsRefused(t *testing.T) {
 		{`UPDATE experts SET revoked = 1 WHERE id = ?`, "experts[1].revoked"},
 	} {
 		row, col, _ := strings.Cut(c.field, ".")
-		id := map[string]int64{"questions[0]": target.ID, "questions[1]": cal.ID, "experts[0]": experts[0].ID, "experts[1]": experts[1].ID}[row]
+		id := map[string]int64{"questions[0]": target.ID, "questions[1]": cal.ID, "experts[0]": experts[0].ID, "experts[1]": experts[1].ID, "workshop": w.ID}[row]
 		table, _, _ := strings.Cut(row, "[")
+		if table == "workshop" {
+			table = "workshops"
+		}
 		tx, err := db.w.BeginTx(ctx, nil)
 		must(t, err)
 		var was any

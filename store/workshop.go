@@ -37,7 +37,7 @@ func (db *DB) CreateWorkshop(ctx context.Context, w *workshop.Workshop) error {
 			return fmt.Errorf("store: create workshop: %w", err)
 		}
 		if err := insertEvent(ctx, tx, workshop.Event{
-			WorkshopID: id, Kind: workshop.EventWorkshopCreated, At: created,
+			WorkshopID: id, Kind: workshop.EventWorkshopCreated, At: created, Detail: w.CreatedDetail(),
 		}); err != nil {
 			return err
 		}

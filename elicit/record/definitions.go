@@ -17,7 +17,9 @@ import (
 // definition with each later correction, change of background and reveal
 // applied; by a question whose freeze (revealed_at, revealed_through:
 // which answers are scored) is not the one its first reveal's event
-// gives; by an expert whose name, affiliation or expertise is not the
+// gives; by a workshop whose title, purpose, decision or notes are not
+// the ones its workshop_created event and workshop_edited events give;
+// by an expert whose name, affiliation or expertise is not the
 // one their expert_added event gives (no correction changes them); by an
 // expert whose revocation, which keeps their answers
 // out of the pool, is not the one their expert_revoked and
@@ -61,6 +63,14 @@ func (r Record) CheckDefinitions() error {
 	for i := 1; i < len(r.Events); i++ {
 		if prev, e := r.Events[i-1], r.Events[i]; e.ID <= prev.ID {
 			return inputErr(fmt.Sprintf("events[%d].id", i), RuleOldestFirst, "event %d after event %d", e.ID, prev.ID)
+		}
+	}
+	if text, ok := r.replayWorkshopText(); ok {
+		now := map[string]string{"title": r.Workshop.Title, "purpose": r.Workshop.Purpose, "decision": r.Workshop.Decision, "notes": r.Workshop.Notes}
+		for _, f := range workshop.TextFields {
+			if now[f] != text[f] {
+				return inputErr("workshop."+f, RuleDefinitionMismatch, "the record has %s, its events give %s", jsonText(now[f]), jsonText(text[f]))
+			}
 		}
 	}
 	added, revocations := r.expertsAdded(), r.replayRevoked()
@@ -231,6 +241,37 @@ func timeText(t *time.Time) string {
 		return "none"
 	}
 	return t.UTC().Format(time.RFC3339Nano)
+}
+
+// replayWorkshopText is the workshop's text as its events give it: its
+// workshop_created event's (workshop.Workshop.CreatedDetail) with each
+// workshop_edited event's "after" applied; ok false when the
+// workshop_created event carries no text.
+func (r Record) replayWorkshopText() (map[string]string, bool) {
+	var text map[string]string
+	for _, e := range r.Events {
+		switch e.Kind {
+		case workshop.EventWorkshopCreated:
+			var d map[string]string
+			if json.Unmarshal([]byte(e.Detail), &d) != nil {
+				return nil, false
+			}
+			if _, ok := d["title"]; !ok {
+				return nil, false
+			}
+			text = d
+		case workshop.EventWorkshopEdited:
+			var d struct {
+				After map[string]string `json:"after"`
+			}
+			if text != nil && json.Unmarshal([]byte(e.Detail), &d) == nil {
+				for k, v := range d.After {
+					text[k] = v
+				}
+			}
+		}
+	}
+	return text, text != nil
 }
 
 // expertsAdded are the expert_added events that carry the name the
