@@ -276,13 +276,7 @@ func TestReorderedEventsAreRefused(t *testing.T) {
 			m["revoked"] = true
 		}
 	}
-	b, err := json.Marshal(doc)
-	must(t, err)
-	rec, err := record.Decode(bytes.NewReader(b))
-	must(t, err)
-	if err := rec.CheckChain(); err != nil {
-		t.Fatalf("the reordered record's chain: %v (the list's order is not chained)", err)
-	}
+	b, rec := chainIntact(t, doc, "the reordered record", "the list's order is not chained")
 	var ie *elicit.InputError
 	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != fmt.Sprintf("events[%d].id", min(revoked, reissued)+1) {
 		t.Errorf("the reordered record reads with %v, want events[%d].id refused", err, min(revoked, reissued)+1)
@@ -315,13 +309,7 @@ func TestReorderedPriorHistoryIsRefused(t *testing.T) {
 	h := rq["prior_history"].([]any)
 	h[0], h[1] = h[1], h[0]
 	rq["agreed_prior"] = was["questions"].([]any)[0].(map[string]any)["agreed_prior"]
-	b, err := json.Marshal(doc)
-	must(t, err)
-	rec, err := record.Decode(bytes.NewReader(b))
-	must(t, err)
-	if err := rec.CheckChain(); err != nil {
-		t.Fatalf("the reordered record's chain: %v (the history's order is not chained)", err)
-	}
+	b, _ := chainIntact(t, doc, "the reordered record", "the history's order is not chained")
 	var ie *elicit.InputError
 	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "questions[0].prior_history[1].id" || ie.Rule != record.RulePriorMismatch {
 		t.Errorf("the reordered record reads with %v, want questions[0].prior_history[1].id refused", err)
@@ -340,13 +328,7 @@ func TestWeightsInForceAreTheHistorysLast(t *testing.T) {
 	var doc map[string]any
 	must(t, json.Unmarshal(exportJSON(t, db, p.w.ID), &doc))
 	doc["weights"].(map[string]any)["by_expert"] = map[string]any{strconv.FormatInt(p.experts[1].ID, 10): 5}
-	b, err := json.Marshal(doc)
-	must(t, err)
-	rec, err := record.Decode(bytes.NewReader(b))
-	must(t, err)
-	if err := rec.CheckChain(); err != nil {
-		t.Fatalf("the changed record's chain: %v (the copy in force is not chained)", err)
-	}
+	b, rec := chainIntact(t, doc, "the changed record", "the copy in force is not chained")
 	var ie *elicit.InputError
 	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "weights" {
 		t.Errorf("the record reads with %v, want weights refused", err)
@@ -375,13 +357,7 @@ func TestReorderedRevisionsAreRefused(t *testing.T) {
 	must(t, json.Unmarshal(exportJSON(t, db, p.w.ID), &doc))
 	revs := doc["revisions"].([]any)
 	revs[0], revs[1] = revs[1], revs[0]
-	b, err := json.Marshal(doc)
-	must(t, err)
-	rec, err := record.Decode(bytes.NewReader(b))
-	must(t, err)
-	if err := rec.CheckChain(); err != nil {
-		t.Fatalf("the reordered record's chain: %v (the list's order is not chained)", err)
-	}
+	b, rec := chainIntact(t, doc, "the reordered record", "the list's order is not chained")
 	var ie *elicit.InputError
 	if _, err := record.Parse(bytes.NewReader(b)); !errors.As(err, &ie) || ie.Field != "revisions[1].id" {
 		t.Errorf("the reordered record reads with %v, want revisions[1].id refused", err)
@@ -389,4 +365,20 @@ func TestReorderedRevisionsAreRefused(t *testing.T) {
 	if _, err := db.Import(ctx, rec); err == nil {
 		t.Error("the reordered record was imported")
 	}
+}
+
+// chainIntact is the record doc, changed where the chain does not reach,
+// as JSON and decoded, with its chain checked intact: what remains to
+// test is that the record's other checks refuse it. what names it and
+// why names the part the chain leaves out, for the failure.
+func chainIntact(t *testing.T, doc map[string]any, what, why string) ([]byte, record.Record) {
+	t.Helper()
+	b, err := json.Marshal(doc)
+	must(t, err)
+	rec, err := record.Decode(bytes.NewReader(b))
+	must(t, err)
+	if err := rec.CheckChain(); err != nil {
+		t.Fatalf("%s's chain: %v (%s)", what, err, why)
+	}
+	return b, rec
 }
