@@ -45,13 +45,7 @@ func TestRefusedSaveSurvivesReloadAndBack(t *testing.T) {
 	shots.take(carmen, "refused-reload-390")
 	carmen.fill(`form.answer-form`, "values[1]", "3.5")
 	saveAnswer(t, carmen)
-	carmen.do("tap Back", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		_, _ = chromedp.NavigateBack()(ctx, tg) // an error page is what is checked next
-		return nil
-	}))
-	if err := carmen.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
-		t.Fatal(err)
-	}
+	carmen.back(t)
 	if u := carmen.url(); u != q4 {
 		t.Fatalf("Back after the save leads to %s, showing %q; want the question's page", u, clip(carmen.text(), 200))
 	}

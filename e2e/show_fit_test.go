@@ -43,13 +43,7 @@ func TestShowTheFitStaysOnThePage(t *testing.T) {
 	}
 	shots.take(carmen, "show-fit-in-place-390")
 	saveAnswer(t, carmen)
-	carmen.do("tap Back", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		_, _ = chromedp.NavigateBack()(ctx, tg) // an error page is what is checked next
-		return nil
-	}))
-	if err := carmen.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
-		t.Fatal(err)
-	}
+	carmen.back(t)
 	if u := carmen.url(); strings.HasPrefix(u, "chrome-error:") || !strings.HasSuffix(u, "/q/"+strconv.FormatInt(g.qs[0].ID, 10)) {
 		t.Errorf("Back after saving leads to %s, showing %q; want the question's page", u, clip(carmen.text(), 200))
 	}
@@ -93,5 +87,18 @@ func TestShowTheFitStaysOnThePage(t *testing.T) {
 	}
 	if n := carmen.count(`#preview svg.chart-wide circle.stated`); n != 3 || !strings.HasSuffix(carmen.url(), "/preview") {
 		t.Errorf("without scripts Show the fit leads to %s with %d stated points", carmen.url(), n)
+	}
+}
+
+// back taps the browser's Back and waits for the page it leads to; an
+// error page ("Confirm Form Resubmission") is what the caller checks.
+func (p *person) back(t *testing.T) {
+	t.Helper()
+	p.do("tap Back", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, _ = chromedp.NavigateBack()(ctx, tg)
+		return nil
+	}))
+	if err := p.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
+		t.Fatal(err)
 	}
 }
