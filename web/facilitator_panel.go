@@ -191,6 +191,15 @@ func (d workshopData) state(q workshop.Question) questionState {
 	case errors.Is(err, workshop.ErrNoFits):
 		st.PoolError = "No expert has a fitted judgement on this question yet."
 		return st
+	case errors.Is(err, workshop.ErrNoWeight):
+		var names []string
+		for _, m := range panel.Members {
+			if m.Fitted() {
+				names = append(names, m.Expert.Name)
+			}
+		}
+		st.PoolError = noWeightText(names, d.Weights.Scheme)
+		return st
 	case errors.Is(err, workshop.ErrPoolPoints):
 		st.PoolError = "The pool's quantiles cannot be computed: " + strings.TrimPrefix(err.Error(), workshop.ErrPoolPoints.Error()+": ")
 		return st
@@ -205,6 +214,22 @@ func (d workshopData) state(q workshop.Question) questionState {
 		st.Rep = panel.Single
 	}
 	return st
+}
+
+// noWeightText says why a question has no pool when every expert who
+// answered it (names) has weight 0 under the weights in force
+// (workshop.ErrNoWeight), in the facilitator's words; the panel and the
+// report share it.
+func noWeightText(names []string, scheme workshop.WeightScheme) string {
+	under := "the weights in force"
+	switch scheme {
+	case workshop.WeightsPerformance:
+		under = "the performance weights in force"
+	case workshop.WeightsCustom:
+		under = "the weights you set"
+	}
+	return "No pool: every expert who answered this question (" + wordList(names) + ") has weight 0 under " + under +
+		", and a pool needs some weight. It forms when an expert with weight answers it or the weights change."
 }
 
 // chartView draws every pooled expert's fit (with names), the pool and

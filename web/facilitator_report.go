@@ -91,6 +91,22 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme wo
 	return panelPicture(frame, names, dists, summary)
 }
 
+// poolError says why question q has no pool. The record keeps the
+// reason as the error's text; when it is workshop.ErrNoWeight the report
+// names the experts whose weight is 0, as the panel does (noWeightText).
+func (v reportView) poolError(q record.Question) string {
+	if q.PoolError != workshop.ErrNoWeight.Error() {
+		return "The pool cannot be formed: " + q.PoolError
+	}
+	var names []string
+	for _, cf := range q.CurrentFits {
+		if e := v.Experts[cf.ExpertID]; cf.Fit != nil && !e.Revoked {
+			names = append(names, v.name(cf.ExpertID))
+		}
+	}
+	return noWeightText(names, v.Record.Weights.Scheme)
+}
+
 // reportProvenance is a facilitator's entry as the report's history says
 // it beside the expert's name: "entered by the facilitator, from a paper
 // form; answer sheet answers.csv, row 3".

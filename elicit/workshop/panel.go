@@ -63,7 +63,8 @@ type Panel struct {
 	Through  int
 	Members  []Member // one per expert of PanelInput.Experts, in its order
 	// Pool is nil when PoolErr says why there is none: ErrNoFits when no
-	// active expert has a fit, an *elicit.InputError from
+	// active expert has a fit, ErrNoWeight when every one who has has
+	// weight 0 under the weights in force, an *elicit.InputError from
 	// elicit.LinearPool, or ErrPoolPoints wrapping why its points could
 	// not be computed.
 	Pool    *elicit.Pool
@@ -82,6 +83,12 @@ var PoolProbs = []float64{0.05, 0.5, 0.95}
 // ErrNoFits means no active expert on the panel has a fitted judgement
 // to pool.
 var ErrNoFits = errors.New("no expert has a fitted judgement on this question yet")
+
+// ErrNoWeight means every active expert with a fitted judgement on the
+// question has weight 0 under the weights in force (performance weights
+// that leave them below the cut-off, or weights the facilitator set), so
+// no pool can be formed: a pool needs some weight.
+var ErrNoWeight = errors.New("every expert who answered this question has weight 0 under the weights in force")
 
 // ErrPoolPoints means the pool formed but its points at PoolProbs could
 // not be computed.
@@ -113,6 +120,10 @@ func PanelState(in PanelInput) Panel {
 		return p
 	}
 	pool, err := elicit.LinearPool(dists, raw)
+	if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Rule == elicit.RuleWeightsNotAllZero {
+		p.PoolErr = ErrNoWeight
+		return p
+	}
 	if err != nil {
 		p.PoolErr = err
 		return p

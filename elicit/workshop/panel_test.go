@@ -134,8 +134,7 @@ func TestPanelStateWeights(t *testing.T) {
 	}
 	in.Weights = Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{3: 1}}
 	p = PanelState(in)
-	var ie *elicit.InputError
-	if p.Pool != nil || !errors.As(p.PoolErr, &ie) || ie.Rule != elicit.RuleWeightsNotAllZero {
+	if p.Pool != nil || !errors.Is(p.PoolErr, ErrNoWeight) {
 		t.Errorf("weights only on the revoked expert: pool %v, error %v", p.Pool, p.PoolErr)
 	}
 	for _, m := range p.Members {

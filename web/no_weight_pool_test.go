@@ -1,0 +1,45 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+)
+
+// Walking the invented demo: under weights that give its only answerer
+// weight 0 (as the demo's performance weights do Tomas Lindqvist, the one
+// expert who answered Q3), a question has no pool, and the panel and the
+// report said so in the program's own words, "The pool cannot be formed:
+// elicit: weights: weights must not all be zero" (the report without even
+// the first half). They say it in the facilitator's: whose weight is 0,
+// under which weights, and what makes a pool again.
+func TestNoPoolWhenEveryAnswererHasWeightZero(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	q3 := qs[2] // answered by Tomas Lindqvist alone
+	if es[1].Name != "Tomas Lindqvist" || !strings.Contains(q3.Quantity, "capacitor") {
+		t.Fatalf("the demo changed: %s, Q3 %s", es[1].Name, q3.Quantity)
+	}
+	form := url.Values{"scheme": {"custom"}, "reason": {"Tomas set aside for the check (invented)."}}
+	for i, e := range es {
+		form.Set(weightField(e.ID), []string{"1", "0", "1", "1"}[i])
+	}
+	if res, body := h.post(questionPath(ws.ID, qs[0].ID)+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	_, panel := h.get(questionPath(ws.ID, q3.ID))
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	for where, body := range map[string]string{"panel": panel, "report": report} {
+		for _, jargon := range []string{"elicit:", "must not all be zero"} {
+			if strings.Contains(body, jargon) {
+				t.Errorf("the %s says why Q3 has no pool in the program's words (%q)", where, jargon)
+			}
+		}
+	}
+	if want := "No pool: every expert who answered this question (Tomas Lindqvist) has weight 0 under the weights you set, and a pool needs some weight."; !strings.Contains(panel, want) {
+		t.Errorf("the panel does not say %q", want)
+	}
+	if want := "No pool: every expert who answered this question (Tomas Lindqvist) has weight 0 under the weights you set, and a pool needs some weight."; !strings.Contains(report, want) {
+		t.Errorf("the report does not say %q", want)
+	}
+}
