@@ -43,3 +43,26 @@ func TestNoPoolWhenEveryAnswererHasWeightZero(t *testing.T) {
 		t.Errorf("the report does not say %q", want)
 	}
 }
+
+// The panel and the calibration page wrote the reason of the weights in
+// force as “Classical model weights (invented).”. with a second full
+// stop after the reason's own, which the report had stopped doing.
+func TestWeightsReasonEndsItsSentenceOnce(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	form := url.Values{"scheme": {"custom"}, "reason": {"Ines knows this model best (invented)."}}
+	for i, e := range es {
+		form.Set(weightField(e.ID), []string{"3", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(questionPath(ws.ID, qs[0].ID)+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	for _, page := range []string{questionPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/calibration", workshopPath(ws.ID) + "/report"} {
+		_, body := h.get(page)
+		if !strings.Contains(body, "“Ines knows this model best (invented).”") {
+			t.Errorf("%s does not quote the weights' reason", page)
+		}
+		if strings.Contains(body, "(invented).”.") {
+			t.Errorf("%s ends the weights' reason with a second full stop", page)
+		}
+	}
+}
