@@ -212,3 +212,82 @@ func pdfText(t *testing.T, pdf string) string {
 	}
 	return string(out)
 }
+
+// TestReportKeepsEachTableHeadWithItsRows: printed on A4, the invented
+// demo's record under performance weights ended page 2 with the heading
+// of the table of each expert's scores and its column heads, and began
+// page 3 with the same heads and the rows: a table's heads at a page's
+// foot, with no row under them. No page may end with a table's heads.
+func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
+	if _, err := exec.LookPath("pdftotext"); err != nil {
+		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
+	}
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+	// The walk of a whole workshop: round 1 closed, round 2 opened, the
+	// true values revealed, performance weights chosen, the pool agreed,
+	// round 2 closed and the workshop archived.
+	post := func(path, body string) {
+		t.Helper()
+		status := eval[int](fac, "post "+path, fmt.Sprintf(
+			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: %q, redirect: "manual"}).then(r => r.status || 303)`, path, body))
+		if status >= 400 {
+			t.Fatalf("post %s: status %d", path, status)
+		}
+	}
+	post(d.url+"/round", "action=close")
+	post(d.url+"/round", "action=open&reason=Second+round+after+discussion+%28invented%29.")
+	for _, q := range d.qs {
+		if q.Calibration {
+			post(d.url+"/calibration/q/"+strconv.FormatInt(q.ID, 10), "true_value="+strconv.FormatFloat(*q.TrueValue, 'g', -1, 64)+"&reveal=on&reason=Revealed+after+round+2+%28invented%29.")
+		}
+	}
+	post(d.url+"/calibration/weights", "scheme=performance&reason=Classical+model+weights+%28invented%29.")
+	post(d.url+"/q/"+strconv.FormatInt(d.qs[0].ID, 10)+"/agree", "source=pool&confirm_open=on&rationale=Pool+accepted+%28invented%29.")
+	post(d.url+"/round", "action=close")
+	post(d.url+"/archive", "action=archive&archive_reason=Done+%28invented%29.")
+	fac.viewport(1366, 768, false)
+	fac.open(d.url + "/report")
+	fac.sees("report", "Each expert's scores", "Pool weights over time")
+	// The words of the tables' column heads: a line of three or more of
+	// them, and nothing else, is a table's heads.
+	heads := map[string]bool{}
+	for _, w := range eval[[]string](fac, "the tables' heads", `Array.from(document.querySelectorAll("main thead th")).map(th => th.textContent).join(" ").split(/\s+/).filter(w => w)`) {
+		heads[w] = true
+	}
+	isHeads := func(line string) bool {
+		ws := strings.Fields(line)
+		for _, w := range ws {
+			if !heads[w] {
+				return false
+			}
+		}
+		return len(ws) >= 3
+	}
+	dir := newScreenshots(t).dir
+	for _, pp := range papers {
+		var pdf []byte
+		fac.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+			res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: pp.width, PaperHeight: pp.height})
+			pdf = res.Data
+			return err
+		}))
+		path := filepath.Join(dir, "report-heads-"+pp.name+".pdf")
+		if err := os.WriteFile(path, pdf, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		pages := strings.Split(strings.TrimRight(pdfText(t, path), "\f\n "), "\f")
+		for i, pg := range pages[:len(pages)-1] {
+			lines := strings.Split(strings.TrimRight(pg, "\n "), "\n")
+			// A table's heads run over up to three lines.
+			for _, l := range lines[max(0, len(lines)-3):] {
+				if isHeads(l) {
+					t.Errorf("%s: page %d of %d ends with a table's heads and no row under them: %q", pp.name, i+1, len(pages), strings.Join(strings.Fields(l), " "))
+				}
+			}
+		}
+	}
+}
