@@ -198,7 +198,7 @@ func (d workshopData) state(q workshop.Question) questionState {
 				names = append(names, m.Expert.Name)
 			}
 		}
-		st.PoolError = noWeightText(names, d.Weights.Scheme)
+		st.PoolError = noWeightText(names, d.Weights.Scheme, q.Frozen())
 		return st
 	case errors.Is(err, workshop.ErrPoolPoints):
 		st.PoolError = "The pool's quantiles cannot be computed: " + strings.TrimPrefix(err.Error(), workshop.ErrPoolPoints.Error()+": ")
@@ -219,8 +219,9 @@ func (d workshopData) state(q workshop.Question) questionState {
 // noWeightText says why a question has no pool when every expert who
 // answered it (names) has weight 0 under the weights in force
 // (workshop.ErrNoWeight), in the facilitator's words; the panel and the
-// report share it.
-func noWeightText(names []string, scheme workshop.WeightScheme) string {
+// report share it. A frozen question (a revealed calibration question)
+// takes no more answers, so only other weights can give it a pool.
+func noWeightText(names []string, scheme workshop.WeightScheme, frozen bool) string {
 	under := "the weights in force"
 	switch scheme {
 	case workshop.WeightsPerformance:
@@ -228,8 +229,12 @@ func noWeightText(names []string, scheme workshop.WeightScheme) string {
 	case workshop.WeightsCustom:
 		under = "the weights you set"
 	}
+	then := " It forms when an expert with weight answers it or the weights change."
+	if frozen {
+		then = " Its true value is revealed, so it takes no more answers: only other weights give it a pool."
+	}
 	return "No pool: every expert who answered this question (" + wordList(names) + ") has weight 0 under " + under +
-		", and a pool needs some weight. It forms when an expert with weight answers it or the weights change."
+		", and a pool needs some weight." + then
 }
 
 // chartView draws every pooled expert's fit (with names), the pool and

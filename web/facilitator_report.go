@@ -104,7 +104,7 @@ func (v reportView) poolError(q record.Question) string {
 			names = append(names, v.name(cf.ExpertID))
 		}
 	}
-	return noWeightText(names, v.Record.Weights.Scheme)
+	return noWeightText(names, v.Record.Weights.Scheme, q.Question.Frozen())
 }
 
 // reportProvenance is a facilitator's entry as the report's history says

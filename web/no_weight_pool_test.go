@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"net/http"
 	"net/url"
 	"strings"
@@ -41,6 +42,15 @@ func TestNoPoolWhenEveryAnswererHasWeightZero(t *testing.T) {
 	}
 	if want := "No pool: every expert who answered this question (Tomas Lindqvist) has weight 0 under the weights you set, and a pool needs some weight."; !strings.Contains(report, want) {
 		t.Errorf("the report does not say %q", want)
+	}
+	// Revealed, Q3 takes no more answers: only other weights give it a
+	// pool, and the panel does not wait for an answer.
+	if err := h.db.SetTrueValue(context.Background(), q3.ID, *q3.TrueValue, true, "Revealed for the check (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, panel = h.get(questionPath(ws.ID, q3.ID))
+	if !strings.Contains(panel, "only other weights give it a pool") || strings.Contains(panel, "when an expert with weight answers it") {
+		t.Error("the panel of a revealed question with no pool waits for an answer it cannot take")
 	}
 }
 
