@@ -52,3 +52,40 @@ func TestPanelWeightsFollowALiveChange(t *testing.T) {
 		shots.part(fac, "#pool", "panel-weights-live-"+strconv.FormatInt(w, 10))
 	}
 }
+
+// TestPanelAgreedPriorFollowsALiveChange: with question 1's panel open,
+// a prior recorded in another tab redrew the picture's "Agreed prior"
+// curve and its row in the table of curves (the live part), while the
+// Agreed prior card under them still gave the earlier Beta, its
+// rationale and its code: two agreed priors on one screen. The card's
+// account of the prior in force follows the change now (its form stays
+// as it is).
+func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	shots := newScreenshots(t)
+	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
+	for i, w := range []int64{1366, 390} {
+		fac.viewport(w, 768, w < 600)
+		fac.open(panel)
+		fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		rationale := fmt.Sprintf("Recorded from another tab, take %d (invented).", i+1)
+		status := eval[int](fac, "agree the pool elsewhere", fmt.Sprintf(
+			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: "source=pool&confirm_open=on&rationale="+encodeURIComponent(%q), redirect: "manual"}).then(r => r.status || 303)`,
+			panel+"/agree", rationale))
+		if status >= 400 {
+			t.Fatalf("agree: status %d", status)
+		}
+		// The pool's single Beta, as the live part shows it.
+		if err := fac.poll(liveWithin, `document.documentElement.hasAttribute("data-live-updated")`); err != nil {
+			t.Fatalf("at %d px the panel did not redraw within %v: %v", w, liveWithin, err)
+		}
+		card := eval[string](fac, "the agreed prior card", `document.querySelector("#agreed").innerText`)
+		if !strings.Contains(card, rationale) {
+			t.Errorf("at %d px a prior was recorded elsewhere and the picture redrawn, but the Agreed prior card does not give its rationale %q:\n%s", w, rationale, clip(card, 600))
+		}
+		shots.part(fac, "#agreed", "panel-agreed-live-"+strconv.FormatInt(w, 10))
+	}
+}
