@@ -76,3 +76,24 @@ func TestWeightsReasonEndsItsSentenceOnce(t *testing.T) {
 		}
 	}
 }
+
+// With performance weights in force and round 1 closed, the overview told
+// the facilitator that through the next round every expert sees "the
+// pool" as it stands: the facilitator's own panel shows the
+// performance-weight pool, but the experts' feedback is always the
+// equal-weight pool (web/expert.go, newFeedback under WeightsEqual). The
+// overview names the pool the experts see.
+func TestOverviewNamesThePoolTheExpertsSee(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	form := url.Values{"scheme": {"performance"}, "reason": {"Classical model weights (invented)."}}
+	if res, body := h.post(workshopPath(ws.ID)+"/calibration/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d %s", res.StatusCode, body)
+	}
+	_, overview := h.get(workshopPath(ws.ID))
+	if !strings.Contains(overview, "every expert sees the panel's fitted curves and their equal-weight pool") {
+		t.Error("the overview does not say the experts see the equal-weight pool")
+	}
+}
