@@ -29,8 +29,9 @@ func seedInputID(q int64, name string) string {
 
 // answeredBy says who has answered a calibration question and who has
 // not, in a sentence: "Not yet: nobody." read as a placeholder where
-// everyone had answered. In an archived workshop (finished) nobody will
-// answer later, and the sentence says what happened.
+// everyone had answered. In an archived workshop, or on a question whose
+// true value was revealed (finished), nobody will answer later, and the
+// sentence says what happened.
 func answeredBy(answered, not []string, finished bool) string {
 	switch {
 	case len(answered) == 0 && len(not) == 0 && finished:

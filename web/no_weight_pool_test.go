@@ -97,3 +97,26 @@ func TestOverviewNamesThePoolTheExpertsSee(t *testing.T) {
 		t.Error("the overview does not say the experts see the equal-weight pool")
 	}
 }
+
+// Walking the invented demo: once Q2's true value was revealed, which
+// freezes its answers, the calibration page still said "Answered by Ines
+// Varga and Ole Brandt. Not yet: Tomas Lindqvist and Priya Raman.", as if
+// their answers might still come. It says they did not answer.
+func TestRevealedCalibrationQuestionSaysWhoDidNotAnswer(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q2 := qs[1]
+	_, page := h.get(workshopPath(ws.ID) + "/calibration")
+	if !strings.Contains(page, "Answered by Ines Varga and Ole Brandt. Not yet: Tomas Lindqvist and Priya Raman.") {
+		t.Fatal("before the reveal the calibration page does not say who has not answered yet")
+	}
+	if err := h.db.SetTrueValue(context.Background(), q2.ID, *q2.TrueValue, true, "Revealed for the check (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, page = h.get(workshopPath(ws.ID) + "/calibration")
+	if strings.Contains(page, "Not yet: Tomas Lindqvist and Priya Raman") {
+		t.Error("after the reveal the calibration page still waits for answers the question can no longer take")
+	}
+	if !strings.Contains(page, "Answered by Ines Varga and Ole Brandt. Tomas Lindqvist and Priya Raman did not answer.") {
+		t.Error("after the reveal the calibration page does not say who did not answer")
+	}
+}
