@@ -120,3 +120,25 @@ func TestRevealedCalibrationQuestionSaysWhoDidNotAnswer(t *testing.T) {
 		t.Error("after the reveal the calibration page does not say who did not answer")
 	}
 }
+
+// The panel of a revealed calibration question offered "Enter or revise"
+// a judgement on an expert's behalf, which led only to a page saying the
+// answers are frozen. The panel says so itself and offers no such form.
+func TestRevealedQuestionPanelOffersNoEntry(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	q2 := qs[1]
+	enter := `action="` + questionPath(ws.ID, q2.ID) + `/enter"`
+	if _, panel := h.get(questionPath(ws.ID, q2.ID)); !strings.Contains(panel, enter) {
+		t.Fatal("before the reveal the panel offers no entry on an expert's behalf")
+	}
+	if err := h.db.SetTrueValue(context.Background(), q2.ID, *q2.TrueValue, true, "Revealed for the check (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, panel := h.get(questionPath(ws.ID, q2.ID))
+	if strings.Contains(panel, enter) {
+		t.Error("the panel of a revealed question offers an entry that can only be refused")
+	}
+	if !strings.Contains(panel, "which froze its answers") {
+		t.Error("the panel of a revealed question does not say its answers are frozen")
+	}
+}
