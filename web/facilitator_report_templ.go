@@ -1846,9 +1846,9 @@ func priorSummary(v reportView) templ.Component {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var95 string
-				templ_7745c5c3_Var95, templ_7745c5c3_Err = templ.JoinStringErrs(sourceShort(a.Source))
+				templ_7745c5c3_Var95, templ_7745c5c3_Err = templ.JoinStringErrs(v.sourceShort(a.AgreedPrior))
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 439, Col: 32}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 439, Col: 39}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var95))
 				if templ_7745c5c3_Err != nil {
@@ -2034,6 +2034,25 @@ func priorLabel(d elicit.ScaledBeta) string {
 		s += " on [" + boundsText(d.Lower, d.Upper, ", ") + "]"
 	}
 	return s
+}
+
+// sourceShort names how a prior was made, in a few words; a prior from
+// the pool names the pool by the weights that made it (its weight set,
+// Weights.PoolName), since a reviewer reads "linear pool" alone as equal
+// weights: the demo's prior from a performance-weight pool that was Ines
+// Varga's judgement alone said only "linear pool".
+func (v reportView) sourceShort(a workshop.AgreedPrior) string {
+	if a.Source == workshop.PriorFromPool {
+		if a.WeightSetID == 0 && len(v.Record.WeightHistory) == 0 {
+			return "equal-weight pool (its single Beta)"
+		}
+		for _, w := range v.Record.WeightHistory {
+			if a.WeightSetID != 0 && w.ID == a.WeightSetID {
+				return strings.ToLower(w.Scheme.PoolName()) + " (its single Beta)"
+			}
+		}
+	}
+	return sourceShort(a.Source)
 }
 
 // sourceShort names how a prior was made, in a few words.

@@ -41,7 +41,7 @@ func TestReportOpensWithTheAgreedPriors(t *testing.T) {
 	}
 	for _, want := range []string{"Q1: " + htmlEscape(qs[0].Quantity), "Beta(" + fv(a.Dist.Alpha) + ", " + fv(a.Dist.Beta.Beta) + ")",
 		fv(a.Mean), fv(a.Percentiles.P05), fv(a.Percentiles.P50), fv(a.Percentiles.P95),
-		"linear pool (its single Beta)", "while round 1 was open", "Summary-table rationale (invented).", a.At.UTC().Format("2006-01-02")} {
+		"equal-weight pool (its single Beta)", "while round 1 was open", "Summary-table rationale (invented).", a.At.UTC().Format("2006-01-02")} {
 		if !strings.Contains(summary, want) {
 			t.Errorf("the summary lacks %q", want)
 		}

@@ -142,3 +142,27 @@ func TestRevealedQuestionPanelOffersNoEntry(t *testing.T) {
 		t.Error("the panel of a revealed question does not say its answers are frozen")
 	}
 }
+
+// The report's summary of agreed priors said a prior from the pool was
+// made from the "linear pool (its single Beta)", which a reviewer reads
+// as the equal-weight pool; walking the demo, it was the performance-weight
+// pool, Ines Varga's judgement alone. It names the pool by its weights.
+func TestReportNamesThePoolAPriorCameFrom(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	form := url.Values{"scheme": {"custom"}, "reason": {"Ines knows this model best (invented)."}}
+	for i, e := range es {
+		form.Set(weightField(e.ID), []string{"3", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", form); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	agree := url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool under Ines's weight (invented)."}}
+	if res, body := h.post(qp+"/agree", agree); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree: %d %s", res.StatusCode, body)
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	if !strings.Contains(report, "custom-weight pool (its single Beta)") {
+		t.Error("the report's summary does not say the prior came from the custom-weight pool")
+	}
+}
