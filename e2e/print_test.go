@@ -217,7 +217,9 @@ func pdfText(t *testing.T, pdf string) string {
 // demo's record under performance weights ended page 2 with the heading
 // of the table of each expert's scores and its column heads, and began
 // page 3 with the same heads and the rows: a table's heads at a page's
-// foot, with no row under them. No page may end with a table's heads.
+// foot, with no row under them; page 11 ended with the heading of Q6's
+// near-certainty warning, its text on page 12. No page may end with a
+// table's heads or a heading.
 func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 	if _, err := exec.LookPath("pdftotext"); err != nil {
 		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
@@ -267,6 +269,15 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 		}
 		return len(ws) >= 3
 	}
+	// The headings, but for those a picture's key also writes ("Agreed
+	// prior" names a curve too).
+	headings := map[string]bool{}
+	for _, h := range eval[[]string](fac, "the headings", `(() => {
+		const keys = new Set(Array.from(document.querySelectorAll(".chart-key .key-item, svg text")).map(k => k.textContent.trim()));
+		return Array.from(document.querySelectorAll("main h2, main h3, main h4")).map(h => h.textContent.trim().split(/\s+/).join(" ")).filter(h => !keys.has(h));
+	})()`) {
+		headings[h] = true
+	}
 	dir := newScreenshots(t).dir
 	for _, pp := range papers {
 		var pdf []byte
@@ -282,6 +293,11 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 		pages := strings.Split(strings.TrimRight(pdfText(t, path), "\f\n "), "\f")
 		for i, pg := range pages[:len(pages)-1] {
 			lines := strings.Split(strings.TrimRight(pg, "\n "), "\n")
+			// A heading at a page's foot, its text on the next (the near-
+			// certainty warning under the demo's Q6 on A4).
+			if last := strings.Join(strings.Fields(lines[len(lines)-1]), " "); headings[last] {
+				t.Errorf("%s: page %d of %d ends with the heading %q", pp.name, i+1, len(pages), last)
+			}
 			// A table's heads run over up to three lines.
 			for _, l := range lines[max(0, len(lines)-3):] {
 				if isHeads(l) {
