@@ -94,11 +94,14 @@ func gapAtMost(gap float64) string {
 }
 
 // singleBetaGap says how far the pool's single Beta is from the pool: a
-// pool whose experts all have one Beta (a panel of one, say) is that Beta
-// exactly (elicit.Pool.BestBeta), and "at most 0 away" read as a rounding.
+// pool whose experts with weight all have one Beta (a panel of one, or
+// performance weights that give one expert all of it) is that Beta
+// exactly (elicit.Pool.BestBeta), and "at most 0 away" read as a
+// rounding. It does not say every pooled expert has that Beta: experts
+// pooled at weight 0 may have judged quite otherwise.
 func singleBetaGap(gap float64) string {
 	if gap == 0 {
-		return "The single Beta is the pool itself: every pooled expert's fit is this one Beta."
+		return "The single Beta is the pool itself: every expert with weight in the pool has this one fitted Beta."
 	}
 	return "The single Beta's CDF is " + gapAtMost(gap) + " (in probability) away from the pool's. " +
 		"A mixture of very different experts can be far from any one Beta: look at the picture before agreeing it."
@@ -107,7 +110,7 @@ func singleBetaGap(gap float64) string {
 // singleBetaReportGap is singleBetaGap for the report's line on the pool.
 func singleBetaReportGap(gap float64) string {
 	if gap == 0 {
-		return "the pool itself (every pooled expert's fit is this one Beta)"
+		return "the pool itself (every expert with weight in the pool has this one fitted Beta)"
 	}
 	return gapAtMost(gap) + " from the pool's CDF"
 }

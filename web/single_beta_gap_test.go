@@ -2,6 +2,8 @@ package web
 
 import (
 	"context"
+	"net/http"
+	"net/url"
 	"strings"
 	"testing"
 
@@ -35,7 +37,7 @@ func TestSingleBetaOfOneExpertIsThePool(t *testing.T) {
 	if !strings.Contains(panel, "The single Beta is the pool itself") || strings.Contains(panel, "at most 0 (in probability)") {
 		t.Error("the panel of one expert does not say its single Beta is the pool")
 	}
-	if !strings.Contains(report, "the pool itself (every pooled expert") || strings.Contains(report, "at most 0 from the pool") {
+	if !strings.Contains(report, "the pool itself (every expert with weight in the pool") || strings.Contains(report, "at most 0 from the pool") {
 		t.Error("the report of one expert does not say its single Beta is the pool")
 	}
 
@@ -43,5 +45,28 @@ func TestSingleBetaOfOneExpertIsThePool(t *testing.T) {
 	_, panel = h2.get(questionPath(ws2.ID, qs[0].ID))
 	if !strings.Contains(panel, "The single Beta&#39;s CDF is at most 0.1") || strings.Contains(panel, "is the pool itself") {
 		t.Error("the demo's panel of four does not give its single Beta's distance from the pool")
+	}
+}
+
+// Walking the invented demo under performance weights, which give Ines
+// Varga all the weight: the panel and the report said the single Beta is
+// the pool itself because "every pooled expert's fit is this one Beta",
+// while Tomas Lindqvist and Ole Brandt, pooled at weight 0, had judged
+// otherwise (Ole Brandt far narrower). They say it of the experts with
+// weight.
+func TestSingleBetaOfOneWeightedExpertIsThePool(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	if res, body := h.post(workshopPath(ws.ID)+"/calibration/weights", url.Values{"scheme": {"performance"}, "reason": {"Classical model weights (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights: %d %s", res.StatusCode, body)
+	}
+	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	for where, body := range map[string]string{"panel": panel, "report": report} {
+		if strings.Contains(body, "every pooled expert&#39;s fit is this one Beta") || strings.Contains(body, "every pooled expert's fit is this one Beta") {
+			t.Errorf("the %s says every pooled expert has the single Beta, with two of them at weight 0 and other fits", where)
+		}
+		if !strings.Contains(body, "every expert with weight in the pool has this one fitted Beta") {
+			t.Errorf("the %s does not say the experts with weight have the single Beta", where)
+		}
 	}
 }
