@@ -166,3 +166,23 @@ func TestReportNamesThePoolAPriorCameFrom(t *testing.T) {
 		t.Error("the report's summary does not say the prior came from the custom-weight pool")
 	}
 }
+
+// A cut-off the calibration page refuses before scoring (not a number,
+// or outside 0 to 1) left the page saying "The classical model could not
+// score the panel: ." with no reason after the colon. It says the cut-off
+// is refused, beside its field, and how to go on.
+func TestRefusedCutOffSaysWhyThereAreNoScores(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	for _, alpha := range []string{"abc", "2", "-1", "NaN"} {
+		res, body := h.get(workshopPath(ws.ID) + "/calibration?alpha=" + url.QueryEscape(alpha))
+		if res.StatusCode != http.StatusBadRequest {
+			t.Errorf("cut-off %q: status %d, want 400", alpha, res.StatusCode)
+		}
+		if strings.Contains(body, "could not score the panel: .") {
+			t.Errorf("cut-off %q: the page says the model could not score the panel, and gives no reason", alpha)
+		}
+		if !strings.Contains(body, "No scores with the cut-off typed below") {
+			t.Errorf("cut-off %q: the page does not say the typed cut-off is why there are no scores", alpha)
+		}
+	}
+}
