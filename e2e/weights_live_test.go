@@ -89,3 +89,59 @@ func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
 		shots.part(fac, "#agreed", "panel-agreed-live-"+strconv.FormatInt(w, 10))
 	}
 }
+
+// TestWeightHistoryOnAPhone: on a phone the report's table of pool
+// weights over time kept its five columns:
+// the date broke over four lines ("2026-" / "12-04" / "00:53" / "UTC"),
+// what the weights were made from ran a word a line down a narrow column,
+// and the reason and the priors recorded under them lay past the screen's
+// edge. Each weight set is now a block of labelled lines, as the other
+// wide tables are on a phone.
+func TestWeightHistoryOnAPhone(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	shots := newScreenshots(t)
+	fac.open(d.url + "/")
+	status := eval[int](fac, "set performance weights", fmt.Sprintf(
+		`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: "scheme=performance&reason=Classical+model+weights+%%28invented%%29.", redirect: "manual"}).then(r => r.status || 303)`,
+		d.url+"/calibration/weights"))
+	if status >= 400 {
+		t.Fatalf("performance weights: status %d", status)
+	}
+	fac.viewport(390, 844, true)
+	for _, page := range []string{"report"} {
+		fac.open(d.url + "/" + page)
+		if n := fac.count("#weight-history tbody tr"); n == 0 {
+			t.Fatalf("the %s has no table of weights over time", page)
+		}
+		if cut := eval[[]string](fac, "the table's cells", `Array.from(document.querySelectorAll("#weight-history td, #weight-history th")).filter(c => c.getClientRects().length && c.getBoundingClientRect().right > 390.5).map(c => c.innerText.trim())`); len(cut) > 0 {
+			t.Errorf("the %s at 390 px: the weights over time run past the screen: %q", page, cut)
+		}
+		if side := eval[int](fac, "the rows' cells", `Array.from(document.querySelectorAll("#weight-history tbody tr")).filter(r => new Set(Array.from(r.cells).filter(c => c.getClientRects().length).map(c => Math.round(c.getBoundingClientRect().left))).size > 1).length`); side > 0 {
+			t.Errorf("the %s at 390 px: %d weight sets lay their cells side by side", page, side)
+		}
+	}
+	// At the projector the date broke inside itself, "2026-12-" over
+	// "04 00:54 UTC": a date and time is read whole.
+	for _, w := range []int64{1366, 390} {
+		fac.viewport(w, 768, w < 600)
+		fac.open(d.url + "/report")
+		if lines := eval[int](fac, "the date's lines", `(() => {
+			const th = document.querySelector("#weight-history tbody th");
+			const m = /\d{4}-\d\d-\d\d \d\d:\d\d UTC/.exec(th.textContent);
+			const w = document.createTreeWalker(th, NodeFilter.SHOW_TEXT);
+			for (let t = w.nextNode(); t; t = w.nextNode()) {
+				const i = t.textContent.indexOf(m[0]);
+				if (i < 0) continue;
+				const r = document.createRange(); r.setStart(t, i); r.setEnd(t, i + m[0].length);
+				return new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size;
+			}
+			return -1;
+		})()`); lines != 1 {
+			t.Errorf("at %d px the date a weight set was applied stands on %d lines", w, lines)
+		}
+		shots.part(fac, "#weight-history", "weight-history-report-"+strconv.FormatInt(w, 10))
+	}
+}
