@@ -186,3 +186,21 @@ func TestRefusedCutOffSaysWhyThereAreNoScores(t *testing.T) {
 		}
 	}
 }
+
+// An archived workshop's overview and panels said they follow "new
+// answers as they arrive", which an archived workshop cannot take.
+func TestArchivedPagesPromiseNoNewAnswers(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	if res, body := h.post(workshopPath(ws.ID)+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Finished (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d %s", res.StatusCode, body)
+	}
+	for _, page := range []string{workshopPath(ws.ID), questionPath(ws.ID, qs[0].ID)} {
+		_, body := h.get(page)
+		if strings.Contains(body, "follows new answers as they arrive") {
+			t.Errorf("%s of an archived workshop says it follows new answers", page)
+		}
+		if !strings.Contains(body, "archived: no answers arrive until it is brought back") {
+			t.Errorf("%s of an archived workshop does not say no answers arrive", page)
+		}
+	}
+}
