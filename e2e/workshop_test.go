@@ -230,7 +230,7 @@ func TestWorkshopInBrowser(t *testing.T) {
 	if st := fac.load("record the agreed prior", chromedp.Click(chromedp.CSS(agree+` button[type=submit]`))); st != http.StatusOK {
 		t.Fatalf("record the agreed prior: status %d\n%s", st, clip(fac.text(), 2000))
 	}
-	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the linear pool", "agreed in round 2",
+	fac.sees("agreed prior", "Rationale: "+rationale, "single Beta representing the equal-weight pool", "agreed in round 2",
 		"Agreed while round 2 was still open")
 	if ps := agreedPriors(t, site); len(ps) != 1 || !ps[0].RoundOpen {
 		t.Fatalf("the prior agreed while the round was open is not marked so: %+v", ps)

@@ -1105,7 +1105,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		if a := q.AgreedPrior; a != nil {
-			templ_7745c5c3_Err = agreedSummary(q.Question, a.AgreedPrior).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = agreedSummary(q.Question, a.AgreedPrior, pooledBy(a.AgreedPrior, v.Record.WeightHistory, len(v.Record.WeightHistory) == 0)).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -1159,9 +1159,9 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var57 string
-					templ_7745c5c3_Var57, templ_7745c5c3_Err = templ.JoinStringErrs(priorOrigin(q.Question, h))
+					templ_7745c5c3_Var57, templ_7745c5c3_Err = templ.JoinStringErrs(priorOriginFrom(q.Question, h, pooledBy(h, v.Record.WeightHistory, len(v.Record.WeightHistory) == 0)))
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 305, Col: 139}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 305, Col: 214}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var57))
 					if templ_7745c5c3_Err != nil {
@@ -1174,7 +1174,7 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 					var templ_7745c5c3_Var58 string
 					templ_7745c5c3_Var58, templ_7745c5c3_Err = templ.JoinStringErrs(h.Rationale)
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 305, Col: 167}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 305, Col: 242}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var58))
 					if templ_7745c5c3_Err != nil {
@@ -2042,15 +2042,8 @@ func priorLabel(d elicit.ScaledBeta) string {
 // weights: the demo's prior from a performance-weight pool that was Ines
 // Varga's judgement alone said only "linear pool".
 func (v reportView) sourceShort(a workshop.AgreedPrior) string {
-	if a.Source == workshop.PriorFromPool {
-		if a.WeightSetID == 0 && len(v.Record.WeightHistory) == 0 {
-			return "equal-weight pool (its single Beta)"
-		}
-		for _, w := range v.Record.WeightHistory {
-			if a.WeightSetID != 0 && w.ID == a.WeightSetID {
-				return strings.ToLower(w.Scheme.PoolName()) + " (its single Beta)"
-			}
-		}
+	if pool := pooledBy(a, v.Record.WeightHistory, len(v.Record.WeightHistory) == 0); pool != "" {
+		return pool + " (its single Beta)"
 	}
 	return sourceShort(a.Source)
 }

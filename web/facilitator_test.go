@@ -782,7 +782,7 @@ func TestDefaultBinsOnBoundsFarFromZero(t *testing.T) {
 // after it had swallowed the space, "Beta(2.951, 55.56)on [0, 1]".
 func TestAgreedSummaryKeepsItsSpaces(t *testing.T) {
 	q := workshop.Question{ID: 1, Position: 1, Quantity: "invented share", Lower: 0, Upper: 1}
-	html := renderText(t, agreedSummary(q, workshop.AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 2.951, Beta: 55.56}), Round: 1}))
+	html := renderText(t, agreedSummary(q, workshop.AgreedPrior{Dist: elicit.Unit(elicit.Beta{Alpha: 2.951, Beta: 55.56}), Round: 1}, ""))
 	if !regexp.MustCompile(`Beta\(2\.951, 55\.56\)</strong>\s+on \[0, 1\]`).MatchString(html) {
 		t.Errorf("the agreed prior's summary runs the Beta into its scale:\n%s", html)
 	}

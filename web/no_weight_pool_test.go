@@ -165,6 +165,18 @@ func TestReportNamesThePoolAPriorCameFrom(t *testing.T) {
 	if !strings.Contains(report, "custom-weight pool (its single Beta)") {
 		t.Error("the report's summary does not say the prior came from the custom-weight pool")
 	}
+	// The prior itself, under its question in the report and on the
+	// panel, names the pool likewise.
+	_, panel := h.get(qp)
+	for where, body := range map[string]string{"panel": panel, "report": report} {
+		if !strings.Contains(body, "single Beta representing the custom-weight pool") {
+			t.Errorf("the %s's agreed prior does not say it represents the custom-weight pool", where)
+		}
+		// (The decision log's entry keeps its own words.)
+		if where == "panel" && strings.Contains(body, "single Beta representing the linear pool") {
+			t.Errorf("the %s's agreed prior says only \"the linear pool\"", where)
+		}
+	}
 }
 
 // A cut-off the calibration page refuses before scoring (not a number,

@@ -78,7 +78,7 @@ func TestPagesWriteNarrowRangesApart(t *testing.T) {
 	}
 	apart(t, "the calibration page's pool row", cells...)
 
-	summary := renderText(t, agreedSummary(q, workshop.AgreedPrior{Dist: d}))
+	summary := renderText(t, agreedSummary(q, workshop.AgreedPrior{Dist: d}, ""))
 	if m := regexp.MustCompile(`5%, 50%, 95%: ([^,]+), ([^,]+), ([^.]+(?:\.\d+)?)\.`).FindStringSubmatch(summary); m == nil {
 		t.Errorf("the agreed prior's summary gives no percentiles:\n%s", summary)
 	} else {
