@@ -46,17 +46,18 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 	m := facilitatorMeta(ws, "Decision log", "log")
 	// An agreement's entry writes the agreed Beta: the caution goes with it.
 	m.Caution = len(src.Priors) > 0
-	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, src.Events, src.Questions, src.Experts, src.Priors, src.Revisions, chainOf(src))))
+	s.renderPage(w, r, http.StatusOK, m, logPage(newLogView(ws, src.Events, src.Questions, src.Experts, src.Priors, src.Revisions, src.WeightHistory, chainOf(src))))
 }
 
 // newLogView writes each event as a row of the log, and each judgement
 // the facilitator entered on an expert's behalf (enteredOnBehalf) in its
 // place among them, naming experts and questions instead of their ids;
 // revs are the workshop's revisions; ps are its agreed priors,
-// for what an agreement's event does not carry (a consensus judgement);
+// for what an agreement's event does not carry (a consensus judgement,
+// the weights of the pool it came from, among the weight sets sets);
 // c is the record's fingerprint chain.
-func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, c fingerprint.Chain) logView {
-	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}}
+func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, sets []workshop.Weights, c fingerprint.Chain) logView {
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}, weightSets: sets}
 	for _, rv := range revs {
 		w.revisions[rv.ID] = rv
 	}
@@ -211,6 +212,9 @@ type eventWriter struct {
 	experts   []workshop.Expert
 	revealed  map[int64]bool
 	priors    []workshop.AgreedPrior
+	// weightSets are the workshop's weight sets, oldest first, which name
+	// the pool a prior from the pool came from.
+	weightSets []workshop.Weights
 	// revisions name the expert and round of a withheld reason, as the
 	// panel's list does where it was withheld.
 	revisions map[int64]workshop.Revision
@@ -344,6 +348,11 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			s := betaLabel(*d.Dist) + ": the " + sourceLabel(d.Source) + "."
 			if p, ok := w.prior(e); ok && p.Source == workshop.PriorFromConsensus && p.Consensus != nil {
 				s = betaLabel(*d.Dist) + ": the " + priorOrigin(w.questions[e.QuestionID], p) + "."
+			} else if ok && p.Source == workshop.PriorFromPool {
+				// Named by its weights, as the panel and the report name it.
+				if pool := pooledBy(p, w.weightSets, len(w.weightSets) == 0); pool != "" {
+					s = betaLabel(*d.Dist) + ": the single Beta representing the " + pool + "."
+				}
 			}
 			if d.Construction != nil {
 				if c, err := elicit.Construct(*d.Construction); err == nil {

@@ -108,7 +108,7 @@ func (v reportView) logView() logView {
 	for i, rv := range v.Record.Revisions {
 		revs[i] = rv.Revision
 	}
-	return newLogView(v.Record.Workshop, v.Record.Events, qs, v.Record.Experts, ps, revs, v.Chain)
+	return newLogView(v.Record.Workshop, v.Record.Events, qs, v.Record.Experts, ps, revs, v.Record.WeightHistory, v.Chain)
 }
 
 func exportPath(ws int64, ext string) string { return workshopPath(ws) + "/export." + ext }

@@ -543,7 +543,7 @@ func TestDecisionLogInSentences(t *testing.T) {
 	if len(ps) != 2 { // the demo's own and the pool's
 		t.Fatalf("%d agreed priors", len(ps))
 	}
-	beta := "Beta(" + fv(ps[1].Dist.Alpha) + ", " + fv(ps[1].Dist.Beta.Beta) + "): the single Beta representing the linear pool."
+	beta := "Beta(" + fv(ps[1].Dist.Alpha) + ", " + fv(ps[1].Dist.Beta.Beta) + "): the single Beta representing the custom-weight pool." // the weights set above
 	want := []string{
 		"Ines Varga joined the panel", "Ole Brandt joined the panel",
 		"Ines Varga 50%, Tomas Lindqvist 25%, Priya Raman 25%, Ole Brandt 0%",

@@ -172,10 +172,22 @@ func TestReportNamesThePoolAPriorCameFrom(t *testing.T) {
 		if !strings.Contains(body, "single Beta representing the custom-weight pool") {
 			t.Errorf("the %s's agreed prior does not say it represents the custom-weight pool", where)
 		}
-		// (The decision log's entry keeps its own words.)
 		if where == "panel" && strings.Contains(body, "single Beta representing the linear pool") {
 			t.Errorf("the %s's agreed prior says only \"the linear pool\"", where)
 		}
+	}
+	// So do the decision log's entry, in the log and in the report's
+	// copy of it, and the study page: they said "the single Beta
+	// representing the linear pool", which reads as equal weights.
+	_, log := h.get(workshopPath(ws.ID) + "/log")
+	_, study := h.get(studyPath(ws.ID, qs[0].ID))
+	for where, body := range map[string]string{"decision log": log, "study page": study} {
+		if !strings.Contains(body, "single Beta representing the custom-weight pool") || strings.Contains(body, "representing the linear pool") {
+			t.Errorf("the %s does not name the custom-weight pool the prior came from", where)
+		}
+	}
+	if strings.Count(report, "single Beta representing the custom-weight pool") < 2 { // the prior under its question, and the log's entry
+		t.Error("the report's copy of the decision log does not name the custom-weight pool")
 	}
 }
 

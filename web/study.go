@@ -58,9 +58,12 @@ func studyPath(ws, q int64) string { return questionPath(ws, q) + "/study" }
 
 // studyView is the study page.
 type studyView struct {
-	Workshop   workshop.Workshop
-	Question   workshop.Question
-	Agreed     *workshop.AgreedPrior
+	Workshop workshop.Workshop
+	Question workshop.Question
+	Agreed   *workshop.AgreedPrior
+	// AgreedPool names the pool a prior from the pool came from by its
+	// weights (pooledBy), as the question's panel does; "" when not known.
+	AgreedPool string
 	Proportion bool
 	Data       []workshop.StudyData // this question's batches, oldest first
 	DataForm   *Form
@@ -202,6 +205,9 @@ func (s *Server) showStudy(w http.ResponseWriter, r *http.Request, ws workshop.W
 func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data []workshop.StudyData, df, pf *Form) studyView {
 	st := d.state(q)
 	v := studyView{Workshop: d.Workshop, Question: q, Agreed: st.current(), Proportion: q.IsProportion(), DataForm: df}
+	if v.Agreed != nil {
+		v.AgreedPool = pooledBy(*v.Agreed, []workshop.Weights{d.Weights}, d.Weights.ID == 0)
+	}
 	for _, b := range data {
 		if b.QuestionID == q.ID {
 			v.Data = append(v.Data, b)
