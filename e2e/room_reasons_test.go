@@ -8,6 +8,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/chromedp/chromedp"
 
@@ -144,7 +145,7 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 			} else {
 				fits(t, fac, "the reasons display on a phone", w)
 			}
-			if over := reasonsOverlap(fac); len(over) > 0 {
+			if over := settledOverlap(fac); len(over) > 0 {
 				t.Errorf("%s: the reasons display draws parts over one another: %q", where, over)
 			}
 			shown := eval[[]shownReason](fac, "the reasons on the page", `(() => {
@@ -277,6 +278,24 @@ func sideEnds(t *testing.T, p *person, screen string) {
 	if h := eval[float64](p, "the screen's height", `window.innerHeight`); s.Bottom > h {
 		t.Errorf("%s: the side column ends at %.0f px, below the %.0f px screen", screen, s.Bottom, h)
 	}
+}
+
+// settledOverlap is reasonsOverlap once the page's layout has settled:
+// the fonts loaded. Once, in CI, the first page at
+// the first screen size was measured with a reason's lines over the keys
+// that the same page at the same size never showed again (three runs
+// here, and the CI run before); an overlap seen early is measured again
+// after a moment, and only one that stays fails.
+func settledOverlap(p *person) []string {
+	if err := p.poll(stepTimeout, `document.fonts.status === "loaded"`); err != nil {
+		p.t.Fatal(err)
+	}
+	over := reasonsOverlap(p)
+	if len(over) > 0 {
+		time.Sleep(500 * time.Millisecond)
+		over = reasonsOverlap(p)
+	}
+	return over
 }
 
 // reasonsOverlap names the reasons display's parts drawn over one
