@@ -506,3 +506,16 @@ func (p *person) value(css string) string {
 	p.t.Helper()
 	return eval[string](p, "read "+css, fmt.Sprintf(`(document.querySelector(%q) || {value: "<missing>"}).value`, css))
 }
+
+// postFromPage posts body (form-encoded) to path from the page p is on,
+// as the page's own forms do (same origin, same cookies: another tab of
+// the facilitator's), and fails the test on a 4xx or 5xx.
+func (p *person) postFromPage(path, body string) {
+	p.t.Helper()
+	status := eval[int](p, "post "+path, fmt.Sprintf(
+		`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: %q, redirect: "manual"}).then(r => r.status || 303)`,
+		path, body))
+	if status >= 400 {
+		p.t.Fatalf("post %s: status %d", path, status)
+	}
+}

@@ -60,12 +60,7 @@ func TestReportPrints(t *testing.T) {
 		for k, v := range form {
 			fmt.Fprintf(&b, "%s=%s&", k, urlEscape(v))
 		}
-		status := eval[int](fac, "post "+path, fmt.Sprintf(
-			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: %q, redirect: "manual"}).then(r => r.status || 303)`,
-			path, b.String()))
-		if status >= 400 {
-			t.Fatalf("post %s: status %d", path, status)
-		}
+		fac.postFromPage(path, b.String())
 	}
 	post(wsURL+"/round", map[string]string{"action": "close"})
 	agreed := 0
@@ -102,16 +97,7 @@ func TestReportPrints(t *testing.T) {
 	fac.open(wsURL + "/report")
 	dir := shots.dir
 	for _, pp := range papers {
-		var pdf []byte
-		fac.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-			res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: pp.width, PaperHeight: pp.height})
-			pdf = res.Data
-			return err
-		}))
-		path := filepath.Join(dir, "report-"+pp.name+".pdf")
-		if err := os.WriteFile(path, pdf, 0o644); err != nil {
-			t.Fatal(err)
-		}
+		path := fac.printPDF(pp, filepath.Join(dir, "report-"+pp.name+".pdf"))
 		fills := pageFills(t, raster, path)
 		t.Logf("%s: %d pages; fill of each page: %s (%s)", pp.name, len(fills), fmtFills(fills), path)
 		for i, f := range fills[:len(fills)-1] {
@@ -242,14 +228,7 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 	// The walk of a whole workshop: round 1 closed, round 2 opened, the
 	// true values revealed, performance weights chosen, the pool agreed,
 	// round 2 closed and the workshop archived.
-	post := func(path, body string) {
-		t.Helper()
-		status := eval[int](fac, "post "+path, fmt.Sprintf(
-			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: %q, redirect: "manual"}).then(r => r.status || 303)`, path, body))
-		if status >= 400 {
-			t.Fatalf("post %s: status %d", path, status)
-		}
-	}
+	post := fac.postFromPage
 	post(d.url+"/round", "action=close")
 	post(d.url+"/round", "action=open&reason=Second+round+after+discussion+%28invented%29.")
 	for _, q := range d.qs {
@@ -288,16 +267,7 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 	}
 	dir := newScreenshots(t).dir
 	for _, pp := range papers {
-		var pdf []byte
-		fac.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-			res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: pp.width, PaperHeight: pp.height})
-			pdf = res.Data
-			return err
-		}))
-		path := filepath.Join(dir, "report-heads-"+pp.name+".pdf")
-		if err := os.WriteFile(path, pdf, 0o644); err != nil {
-			t.Fatal(err)
-		}
+		path := fac.printPDF(pp, filepath.Join(dir, "report-heads-"+pp.name+".pdf"))
 		pages := strings.Split(strings.TrimRight(pdfText(t, path), "\f\n "), "\f")
 		for i, pg := range pages[:len(pages)-1] {
 			lines := strings.Split(strings.TrimRight(pg, "\n "), "\n")
@@ -316,4 +286,20 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 			}
 		}
 	}
+}
+
+// printPDF prints the page p is on to a PDF on paper pp, written to path,
+// and returns path.
+func (p *person) printPDF(pp paper, path string) string {
+	p.t.Helper()
+	var pdf []byte
+	p.do("print to PDF on "+pp.name, chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		res, err := cdp.Call(ctx, tg, page.PrintToPDF, page.PrintToPDFParams{PaperWidth: pp.width, PaperHeight: pp.height})
+		pdf = res.Data
+		return err
+	}))
+	if err := os.WriteFile(path, pdf, 0o644); err != nil {
+		p.t.Fatal(err)
+	}
+	return path
 }

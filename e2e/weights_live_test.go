@@ -2,6 +2,7 @@ package e2e
 
 import (
 	"fmt"
+	"net/url"
 	"strconv"
 	"strings"
 	"testing"
@@ -31,12 +32,7 @@ func TestPanelWeightsFollowALiveChange(t *testing.T) {
 			scheme = "equal" // and back
 		}
 		// The other tab's post (same browser, same cookies).
-		status := eval[int](fac, "set "+scheme+" weights elsewhere", fmt.Sprintf(
-			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: "scheme=%s&reason=From+the+calibration+page+%%28invented%%29.", redirect: "manual"}).then(r => r.status || 303)`,
-			d.url+"/calibration/weights", scheme))
-		if status >= 400 {
-			t.Fatalf("%s weights: status %d", scheme, status)
-		}
+		fac.postFromPage(d.url+"/calibration/weights", "scheme="+scheme+"&reason=From+the+calibration+page+%28invented%29.")
 		want, stale := "In force: performance weights", "In force: equal weights."
 		pool := "Performance-weight pool"
 		if scheme == "equal" {
@@ -72,12 +68,7 @@ func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
 		fac.open(panel)
 		fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
 		rationale := fmt.Sprintf("Recorded from another tab, take %d (invented).", i+1)
-		status := eval[int](fac, "agree the pool elsewhere", fmt.Sprintf(
-			`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: "source=pool&confirm_open=on&rationale="+encodeURIComponent(%q), redirect: "manual"}).then(r => r.status || 303)`,
-			panel+"/agree", rationale))
-		if status >= 400 {
-			t.Fatalf("agree: status %d", status)
-		}
+		fac.postFromPage(panel+"/agree", "source=pool&confirm_open=on&rationale="+url.QueryEscape(rationale))
 		// The pool's single Beta, as the live part shows it.
 		if err := fac.poll(liveWithin, `document.documentElement.hasAttribute("data-live-updated")`); err != nil {
 			t.Fatalf("at %d px the panel did not redraw within %v: %v", w, liveWithin, err)
@@ -104,12 +95,7 @@ func TestWeightHistoryOnAPhone(t *testing.T) {
 	signIn(t, site, fac)
 	shots := newScreenshots(t)
 	fac.open(d.url + "/")
-	status := eval[int](fac, "set performance weights", fmt.Sprintf(
-		`fetch(%q, {method: "POST", headers: {"Content-Type": "application/x-www-form-urlencoded"}, body: "scheme=performance&reason=Classical+model+weights+%%28invented%%29.", redirect: "manual"}).then(r => r.status || 303)`,
-		d.url+"/calibration/weights"))
-	if status >= 400 {
-		t.Fatalf("performance weights: status %d", status)
-	}
+	fac.postFromPage(d.url+"/calibration/weights", "scheme=performance&reason=Classical+model+weights+%28invented%29.")
 	fac.viewport(390, 844, true)
 	for _, page := range []string{"report"} {
 		fac.open(d.url + "/" + page)
