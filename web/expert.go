@@ -1393,14 +1393,19 @@ func (fb *feedback) reasons(except int64) []feedbackReason {
 	return out
 }
 
-// feedbackKey names one question's feedback in a round: the round fed
-// back, the experts revoked when it was read, and the generations of the
-// facilitator's reason decisions and round changes. The revisions of a
+// feedbackKey names one question's feedback in a round: the question in
+// its workshop, the round fed back, the experts revoked when it was read,
+// and the generations of the facilitator's reason decisions and round
+// changes. The workshop is part of the key because a question's id can
+// come back (a workshop deleted while it was the newest frees its
+// questions' ids for the next one added or imported, perhaps by another
+// process), while a workshop's never does (store's nextWorkshopID). The revisions of a
 // closed round change only if it is reopened (saves go to the open round,
 // and revisions are append-only), so the feedback is read and pooled once
 // per key; a revocation, a reissued token lifting one, a reason withheld
 // or shown again, or a round closed, opened or reopened gives a new key.
 type feedbackKey struct {
+	workshop int64
 	question int64
 	through  int
 	revoked  string
@@ -1425,7 +1430,7 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	if err != nil {
 		return nil, err
 	}
-	key := feedbackKey{question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load(), rounds: s.roundGen.Load()}
+	key := feedbackKey{workshop: ws.ID, question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load(), rounds: s.roundGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
 		// Other requests may be waiting on this computation: an expert
 		// closing their page must not fail the others' panels.
