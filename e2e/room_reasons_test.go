@@ -14,6 +14,7 @@ import (
 
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
 )
 
 // roomReasonsPanel is largePanelWith's 20 invented experts, each of whom
@@ -430,4 +431,107 @@ func TestLongWordingKeepsTheSideOnScreen(t *testing.T) {
 			shots.take(fac, fmt.Sprintf("room-long-wording-%d-%d", repeat, sz[0]))
 		}
 	}
+}
+
+// TestReasonsDisplayFitsTheOlderProjector: a panel of 24 experts whose
+// reasons each take two lines of a 16:9 projector's columns (23 of the
+// reasons' ems) and three of a 1024×768 one's (19.6 ems, where the type's
+// floors bind). Pages laid out for 16:9 alone held eight such reasons a
+// column, which on the 1024×768 screen ran some 40 px past the keys; every
+// page now fits both screens, every reason shown once and whole.
+func TestReasonsDisplayFitsTheOlderProjector(t *testing.T) {
+	s := startSite(t)
+	const n = 24
+	ws, q := largePanelWith(t, s, n, nil)
+	ctx := context.Background()
+	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+	if err != nil || len(latest) != n {
+		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+	}
+	words := strings.Fields("Invented: returns of the older seal rose in the hot months, and the new rubber is rated for heat only in the maker's own bench tests, never yet in dusty field sites")
+	reasons := map[string]bool{}
+	for i, rv := range latest {
+		// As long as two lines of a 16:9 projector's columns hold after
+		// its label, "Expert X: " (DejaVu Sans's widths, as the room
+		// is laid out): more than two lines of 19.6 ems.
+		why := fmt.Sprintf("Site %d.", i+1)
+		for _, w := range words {
+			if wrappedLines(chart.TextEm("Expert X: ", true), why+" "+w, 23) > 2 {
+				break
+			}
+			why += " " + w
+		}
+		rv.ID, rv.Reason = 0, why
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		reasons[why] = true
+	}
+	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatalf("close round 1: %v", err)
+	}
+	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room?show=reasons"
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	for _, sz := range [][2]int64{{1024, 768}, {1366, 768}} {
+		w, h := sz[0], sz[1]
+		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)
+		fac.viewport(w, h, false)
+		if st := fac.open(room); st != http.StatusOK {
+			t.Fatalf("%s: the reasons display: %d", screen, st)
+		}
+		seen := map[string]int{}
+		for page := 1; ; page++ {
+			where := fmt.Sprintf("%s, page %d", screen, page)
+			if over := settledOverlap(fac); len(over) > 0 {
+				t.Errorf("%s: the reasons display draws parts over one another: %q", where, over)
+			}
+			if sh := eval[int](fac, "page height", `document.documentElement.scrollHeight`); sh > int(h) {
+				t.Errorf("%s: the reasons display is %d px tall on a %d px screen", where, sh, h)
+			}
+			shown := eval[[]string](fac, "the reasons on the page", `Array.from(document.querySelectorAll(".room-reasons-columns li")).map(li => li.innerText)`)
+			for _, text := range shown {
+				_, why, _ := strings.Cut(text, ": ")
+				seen[why]++
+			}
+			shots.take(fac, fmt.Sprintf("room-reasons-older-%d-page-%d", w, page))
+			if eval[string](fac, "the next link", `(document.getElementById("room-next") || {innerText: ""}).innerText`) != "next reasons →" {
+				break
+			}
+			if page > n {
+				t.Fatalf("%s: more pages than reasons", where)
+			}
+			if st := fac.load("the next reasons", chromedp.Click(chromedp.CSS(`#room-next`))); st != http.StatusOK {
+				t.Fatalf("%s: the next page of reasons: %d", where, st)
+			}
+		}
+		for why := range reasons {
+			if seen[why] != 1 {
+				t.Errorf("%s: %q is shown %d times", screen, clip(why, 40), seen[why])
+			}
+		}
+		if len(seen) != len(reasons) {
+			t.Errorf("%s: %d reasons shown, want %d", screen, len(seen), len(reasons))
+		}
+	}
+}
+
+// wrappedLines is how many lines text takes in a column wide ems wide
+// (DejaVu Sans's widths), its first line starting lead ems in, words
+// wrapped greedily as a browser does.
+func wrappedLines(lead float64, text string, wide float64) int {
+	space := chart.TextEm(" ", false)
+	lines, x := 1, lead
+	for _, word := range strings.Fields(text) {
+		w := chart.TextEm(word, false)
+		if x > 0 && x+space+w > wide {
+			lines, x = lines+1, 0
+		} else if x > 0 {
+			x += space
+		}
+		x += w
+	}
+	return lines
 }

@@ -347,7 +347,7 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 	if v.Fingerprint != "" {
 		fp = v.fingerprintLead() + " " + v.Fingerprint + " " + v.fingerprintNote()
 	}
-	pages := pagesOfReasons(v.Reasons, pageLines([]string{wording, state, fp}))
+	pages := pagesOfReasons(v.Reasons, pageScreens([]string{wording, state, fp}))
 	if page > len(pages) {
 		// A page that was there before reasons were withheld, or typed:
 		// said, not swapped for another, and the live page follows it.

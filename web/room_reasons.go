@@ -220,8 +220,25 @@ type reasonsScreen struct {
 	First, Last int
 }
 
+// pageScreen is one projector's reasons display as the layout sees it:
+// a column's width (Width, in the reasons' ems) and the lines one column
+// holds under the room's header (Lines).
+type pageScreen struct {
+	Width, Lines float64
+}
+
+// pageScreens are the screens every page of reasons must fit at once:
+// a 16:9 projector, where the type is a share of the width (pageLines),
+// and a 1024×768 one, where the type's floors bind (pageLines4x3). A
+// page laid out for one alone ran past the foot of the other: the 16:9
+// columns hold 23 ems, the 1024×768 ones 19.6, and a page of 16:9 lines
+// left the smaller screen a line and a half to spare, or less.
+func pageScreens(header []string) []pageScreen {
+	return []pageScreen{{pageColumnEm, pageLines(header)}, {pageColumnEm4x3, pageLines4x3(header)}}
+}
+
 // pageLines is how many lines of reasons one column of a page holds
-// under the room's header.
+// under the room's header on a 16:9 projector.
 func pageLines(header []string) float64 {
 	em := pageScreenEm - pageFixedEm
 	for i, h := range header {
@@ -234,6 +251,49 @@ func pageLines(header []string) float64 {
 			em -= stateLineEm * float64(textLines(h, stateWideEm, 0, false))
 		}
 	}
+	return columnLines(em)
+}
+
+// The reasons display on a 1024×768 projector, where every type of the
+// room is at its floor (style.css's clamps: 1.3vw is 13.3 px there,
+// under the reasons' 1rem): the reasons in 16 px type, so the screen is
+// 48 of their ems tall and 61.4 wide between the margins (96vw, 983 px),
+// and a column is 19.6 ems (30.67vw, 314 px). The wording is set in its
+// class's floor (1.2rem, 1rem or 0.9rem), the state and the fingerprint
+// in 1rem. The page's fixed parts took 8.5 ems there in Chromium (the
+// list starting 209 px down under a header of 130 px, the keys' rule at
+// 742 px), so pageFixedEm's 10 holds for it too.
+const (
+	pageScreenEm4x3  = 48
+	pageColumnEm4x3  = 19 // 19.6 em, less a margin
+	pageStateWide4x3 = 61
+)
+
+// wordingFloorEm are the wording's sizes at their floors (style.css),
+// in the reasons' ems (1rem), by wordingSizes' index.
+var wordingFloorEm = [len(wordingSizes)]float64{1.2, 1, 0.9}
+
+// pageLines4x3 is how many lines of reasons one column of a page holds
+// under the room's header on a 1024×768 projector.
+func pageLines4x3(header []string) float64 {
+	em := float64(pageScreenEm4x3 - pageFixedEm)
+	for i, h := range header {
+		if h == "" {
+			continue
+		}
+		if i == 0 {
+			size, _ := wordingType(h)
+			f := wordingFloorEm[size]
+			em -= f * wordingLineHeight * float64(textLines(h, pageStateWide4x3/f, 0, true))
+		} else {
+			em -= stateLineEm * float64(textLines(h, pageStateWide4x3, 0, false))
+		}
+	}
+	return columnLines(em)
+}
+
+// columnLines is the lines of reasons a column em ems tall holds.
+func columnLines(em float64) float64 {
 	perColumn := math.Floor(em / pageLineEm)
 	// A column may end a line short of its foot, where the next reason's
 	// first line does not fit under its label; and never hold less than
@@ -244,72 +304,99 @@ func pageLines(header []string) float64 {
 // reasonGap is the space between two reasons, in lines (0.4 em).
 const reasonGap = 0.4 / pageLineEm
 
-// pagesOfReasons lays the reasons out in pages of pageColumns columns of
-// at most column lines each, in order, as the browser does: a reason that
-// fits a column is kept whole in one (style.css breaks none inside it, so
-// that no reason's last lines stand unnamed at the top of the next
-// column) and starts the next column where the rest of this one is too
-// short; a reason longer than a column runs on down the next (Long); one
-// longer than what is left of the page is cut at a word between pages and
-// marked as continued.
-func pagesOfReasons(reasons []feedbackReason, column float64) []reasonsScreen {
+// pagesOfReasons lays the reasons out in pages of pageColumns columns,
+// in order, as the browser does, on every one of screens at once: a
+// reason that fits a column is kept whole in one (style.css breaks none
+// inside it, so that no reason's last lines stand unnamed at the top of
+// the next column) and starts the next column where the rest of this one
+// is too short; a reason longer than a column runs on down the next
+// (Long); one longer than what is left of the page is cut at a word
+// between pages and marked as continued. A page ends where the next
+// reason would run past its foot on any of the screens.
+func pagesOfReasons(reasons []feedbackReason, screens []pageScreen) []reasonsScreen {
 	var pages []reasonsScreen
 	var cur reasonsScreen
-	col, used := 0, 0.0 // the column being filled, and its lines used
+	// The column being filled on each screen, and its lines used.
+	col, used := make([]int, len(screens)), make([]float64, len(screens))
 	flush := func() {
 		if len(cur.Pieces) > 0 {
 			pages = append(pages, cur)
 		}
-		cur, col, used = reasonsScreen{}, 0, 0
+		cur = reasonsScreen{}
+		clear(col)
+		clear(used)
 	}
 	// left is what the page holds from here on, down the columns.
-	left := func() float64 { return column - used + float64(pageColumns-1-col)*column }
-	add := func(p reasonPiece, n float64) {
+	left := func(k int) float64 {
+		return screens[k].Lines - used[k] + float64(pageColumns-1-col[k])*screens[k].Lines
+	}
+	add := func(p reasonPiece, n []float64) {
 		if len(cur.Pieces) == 0 {
 			cur.First = p.N
 		}
 		cur.Pieces = append(cur.Pieces, p)
 		cur.Last = p.N
-		used += n + reasonGap
-		for used > column && col < pageColumns-1 {
-			used -= column
-			col++
+		for k, s := range screens {
+			used[k] += n[k] + reasonGap
+			for used[k] > s.Lines && col[k] < pageColumns-1 {
+				used[k] -= s.Lines
+				col[k]++
+			}
 		}
 	}
+	n := make([]float64, len(screens))
 	for i, r := range reasons {
 		p := reasonPiece{N: i + 1, Label: r.Label, Text: r.Reason}
 		for {
-			n := float64(reasonLines(feedbackReason{Label: p.Label, Reason: p.Text}, pageColumnEm))
-			if n <= column {
-				// Whole in one column: this one, or the next.
-				if used+n > column && used > 0 {
-					if col == pageColumns-1 {
-						flush()
-						continue
+			whole, inPage, onePage := true, true, true
+			for k, s := range screens {
+				n[k] = float64(reasonLines(feedbackReason{Label: p.Label, Reason: p.Text}, s.Width))
+				whole = whole && n[k] <= s.Lines
+				inPage = inPage && n[k] <= left(k)
+				onePage = onePage && n[k] <= float64(pageColumns)*s.Lines
+			}
+			if whole {
+				// Whole in one column on every screen: this one, or the
+				// next.
+				full := false
+				for k, s := range screens {
+					full = full || (used[k]+n[k] > s.Lines && used[k] > 0 && col[k] == pageColumns-1)
+				}
+				if full {
+					flush()
+					continue
+				}
+				for k, s := range screens {
+					if used[k]+n[k] > s.Lines && used[k] > 0 {
+						col[k], used[k] = col[k]+1, 0
 					}
-					col, used = col+1, 0
 				}
 				add(p, n)
 				break
 			}
 			p.Long = true
-			if n <= left() {
+			if inPage {
 				add(p, n)
 				break
 			}
-			if n <= float64(pageColumns)*column && len(cur.Pieces) > 0 {
+			if onePage && len(cur.Pieces) > 0 {
 				// It fits a page of its own: start one.
 				flush()
 				continue
 			}
-			// Longer than a page: what fits of it here, the rest on the
-			// next.
-			room := left()
-			if room < 2 {
+			// Longer than a page: what fits of it here, on every screen,
+			// the rest on the next.
+			room := make([]float64, len(screens))
+			short := false
+			for k := range screens {
+				room[k] = left(k)
+				short = short || room[k] < 2
+			}
+			if short {
 				flush()
 				continue
 			}
-			head, tail := cutReason(p, room)
+			head, tail := cutReason(p, screens, room)
 			add(reasonPiece{N: p.N, Label: p.Label, Text: head, Cont: p.Cont, More: true, Long: true}, room)
 			flush()
 			p = reasonPiece{N: p.N, Label: p.Label, Text: tail, Cont: true}
@@ -320,12 +407,17 @@ func pagesOfReasons(reasons []feedbackReason, column float64) []reasonsScreen {
 }
 
 // cutReason cuts p's text at the last space (or, in a word longer than
-// the page, the last character) that keeps its first part within lines
-// lines, and returns both parts.
-func cutReason(p reasonPiece, lines float64) (string, string) {
+// the page, the last character) that keeps its first part within lines[k]
+// lines on each screen k, and returns both parts.
+func cutReason(p reasonPiece, screens []pageScreen, lines []float64) (string, string) {
 	lead := chart.TextEm(p.Label+": ", true)
 	fits := func(n int) bool {
-		return float64(textLines(p.Text[:n], pageColumnEm, lead, false)) <= lines
+		for k, s := range screens {
+			if float64(textLines(p.Text[:n], s.Width, lead, false)) > lines[k] {
+				return false
+			}
+		}
+		return true
 	}
 	// The longest prefix that fits, by halves over its length in bytes,
 	// then back to a character's start; at least one character.
