@@ -78,3 +78,23 @@ func BenchmarkFitPreviewPictureNewAxes(b *testing.B) {
 		}
 	})
 }
+
+// BenchmarkFitPreviewCurve is the part of BenchmarkFitPreviewPicture that
+// is numbers alone: the fitted Beta's span (its percentiles confirmed,
+// its 0.1% and 99.9% points solved for) and the knots of its cubic
+// pieces, which both layouts share; no paths, words or templates. It
+// measures how much of the picture's cost no way of writing the SVG can
+// remove while the curves are drawn to smoothTolerance.
+func BenchmarkFitPreviewCurve(b *testing.B) {
+	v := benchFitView(b)
+	alpha := v.Dist.Alpha
+	x0, x1 := 0.0, 0.22 // the picture's window (snapped), as drawn
+	cpuNs(b, func() {
+		alpha = math.Nextafter(alpha, math.Inf(1))
+		v.Dist.Alpha = alpha
+		s := smoothSpan(v.Dist, v.Lower, v.Upper, &v.Percentiles)
+		if ks, ok := smoothKnots(v.Dist, x0, x1, s); !ok || len(ks) < 2 {
+			b.Fatal("no knots")
+		}
+	})
+}
