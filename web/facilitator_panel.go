@@ -253,8 +253,11 @@ func (st questionState) chartView() picture {
 	}
 	var names []string
 	var dists []elicit.ScaledBeta
+	// Every active expert's fit, pooled or not: a question whose
+	// answerers all have weight 0 has no pool, and its answers are still
+	// to be seen (the demo's Q3 under performance weights).
 	for _, row := range st.Rows {
-		if row.Fit != nil && row.Pooled {
+		if row.Fit != nil && !row.Expert.Revoked {
 			names, dists = append(names, row.Expert.Name), append(dists, row.Fit.Dist)
 		}
 	}

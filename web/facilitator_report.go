@@ -57,8 +57,8 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 	s.renderPage(w, r, http.StatusOK, m, reportPage(v))
 }
 
-// reportChart draws a question's pooled experts' current fits, their
-// linear pool (elicit.LinearPool with the record's normalised weights) and
+// reportChart draws a question's pooled experts' current fits (every
+// active expert's where there is no pool), their linear pool (elicit.LinearPool with the record's normalised weights) and
 // the agreed prior; a large panel gets the strip of intervals (picture).
 // scheme names the pool.
 func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme workshop.WeightScheme) picture {
@@ -83,6 +83,15 @@ func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme wo
 		}
 		if pool, err := elicit.LinearPool(dists, weights); err == nil {
 			summary = append(summary, chart.Curve{Label: scheme.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: pool}})
+		}
+	}
+	if q.Pool == nil {
+		// No pool (every answerer at weight 0): the answers are still
+		// drawn, as the panel draws them.
+		for _, cf := range q.CurrentFits {
+			if e, ok := experts[cf.ExpertID]; ok && cf.Fit != nil && !e.Revoked {
+				names, dists = append(names, e.Name), append(dists, cf.Fit.Dist)
+			}
 		}
 	}
 	if a := q.AgreedPrior; a != nil {

@@ -4,6 +4,7 @@ import (
 	"context"
 	"net/http"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -42,6 +43,20 @@ func TestNoPoolWhenEveryAnswererHasWeightZero(t *testing.T) {
 	}
 	if want := "No pool: every expert who answered this question (Tomas Lindqvist) has weight 0 under the weights you set, and a pool needs some weight."; !strings.Contains(report, want) {
 		t.Errorf("the report does not say %q", want)
+	}
+	// The answer is still drawn, without a pool: the picture had been
+	// left out, and Q3's only answer was a row of numbers.
+	if n := strings.Count(wideOnly(panel), `class="curve curve-cdf curve-expert"`); n != 1 || !strings.Contains(panel, `data-label="Tomas Lindqvist"`) {
+		t.Errorf("the panel draws %d experts' curves for Q3, want Tomas Lindqvist's", n)
+	}
+	if strings.Contains(wideOnly(panel), "curve-pool") {
+		t.Error("the panel draws a pool for Q3, which has none")
+	}
+	// Q3's section of the report, up to the next question's.
+	_, q3Report, _ := strings.Cut(report, `<section class="report-question" id="report-q`+strconv.FormatInt(q3.ID, 10)+`">`)
+	q3Report, _, _ = strings.Cut(q3Report, `<section class="report-question"`)
+	if !strings.Contains(wideOnly(q3Report), `data-label="Tomas Lindqvist"`) {
+		t.Error("the report draws no curve for Q3's only answer")
 	}
 	// Revealed, Q3 takes no more answers: only other weights give it a
 	// pool, and the panel does not wait for an answer.
