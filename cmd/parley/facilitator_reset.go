@@ -4,8 +4,7 @@ import (
 	"context"
 	"fmt"
 	"io"
-	"net/url"
-	"strings"
+	"net"
 
 	"github.com/parley-elicit/parley/web"
 )
@@ -26,13 +25,22 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
 	}
-	printed := "http://" + *addr
-	if *base != "" {
-		u, err := url.Parse(*base)
-		if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" || strings.Trim(u.Path, "/") != "" || u.RawQuery != "" || u.Fragment != "" {
-			return fail(stderr, "facilitator-reset", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", *base))
+	printed, err := checkBaseURL(*base)
+	if err != nil {
+		return fail(stderr, "facilitator-reset", err)
+	}
+	if printed == "" {
+		// The address printed is the one serve prints for --addr.
+		host, port, err := net.SplitHostPort(*addr)
+		if ip := net.ParseIP(host); err == nil && (host == "" || (ip != nil && ip.IsUnspecified())) {
+			host = "127.0.0.1"
 		}
-		printed = u.Scheme + "://" + u.Host
+		if err == nil {
+			printed, err = checkBaseURL("http://" + net.JoinHostPort(host, port))
+		}
+		if err != nil || port == "" {
+			return fail(stderr, "facilitator-reset", badInput("addr", "must be host:port as given to parley serve, such as 127.0.0.1:8080, got %q", *addr))
+		}
 	}
 	db, err := openExisting(*dbPath)
 	if err != nil {

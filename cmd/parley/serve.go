@@ -8,9 +8,12 @@ import (
 	"log/slog"
 	"net"
 	"net/http"
+	"net/url"
 	"os"
 	"os/signal"
 	"path/filepath"
+	"strconv"
+	"strings"
 	"syscall"
 	"time"
 
@@ -78,6 +81,10 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("addr", "%v", err)
 	}
+	baseURL, err := checkBaseURL(c.baseURL)
+	if err != nil {
+		return err
+	}
 	dbPath, err := filepath.Abs(c.db)
 	if err != nil {
 		return badInput("db", "%v", err)
@@ -127,14 +134,14 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if c.tlsCert != "" {
 		scheme = "https"
 	}
-	base := c.baseURL
+	base := baseURL
 	if base == "" {
 		base = scheme + "://" + printableAddr(host, ln.Addr())
 	}
 	if !isLoopback(host) {
 		fmt.Fprintf(stderr, "parley: WARNING: listening on %s, reachable from other machines on the network. "+
 			"Only the facilitator (signed in) and holders of private expert links can use it; prefer --tls-cert/--tls-key.\n", listening(ln.Addr()))
-		if ip := net.ParseIP(host); c.baseURL == "" && (host == "" || (ip != nil && ip.IsUnspecified())) {
+		if ip := net.ParseIP(host); baseURL == "" && (host == "" || (ip != nil && ip.IsUnspecified())) {
 			fmt.Fprintln(stderr, "parley: links are printed for 127.0.0.1; pass --base-url http://THIS-MACHINE'S-ADDRESS:PORT so experts' links work on their own devices.")
 		}
 	}
@@ -214,6 +221,26 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		err = e
 	}
 	return err
+}
+
+// checkBaseURL reads --base-url: "" (links from --addr), or http:// or
+// https:// with a host and nothing after it but a closing slash, given
+// back as scheme://host. Every printed link is the base and a path that
+// starts with "/": a base typed with its closing slash printed each
+// expert's link and the one-time sign-in address with "//" in them.
+func checkBaseURL(raw string) (string, error) {
+	if raw == "" {
+		return "", nil
+	}
+	u, err := url.Parse(raw)
+	if err != nil || (u.Scheme != "http" && u.Scheme != "https") || u.Host == "" || u.User != nil ||
+		strings.Trim(u.Path, "/") != "" || u.RawQuery != "" || u.Fragment != "" || u.ForceQuery || strings.HasSuffix(raw, "#") {
+		return "", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", raw)
+	}
+	if _, err := strconv.Atoi(u.Port()); u.Port() != "" && err != nil {
+		return "", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", raw)
+	}
+	return u.Scheme + "://" + u.Host, nil
 }
 
 // listenNetwork is the network to listen on for host: an IPv4 address,

@@ -10,6 +10,7 @@ import (
 	"net/http"
 	"net/http/cookiejar"
 	"net/url"
+	"os"
 	"path/filepath"
 	"regexp"
 	"strings"
@@ -318,5 +319,68 @@ func TestServeStopsWithAStalledClient(t *testing.T) {
 	_ = conn.SetReadDeadline(time.Now().Add(5 * time.Second))
 	if _, err := conn.Read(make([]byte, 1)); err == nil {
 		t.Error("the stalled client's connection is still open after the stop")
+	}
+}
+
+// TestServeBaseURLWithClosingSlash: --base-url typed with its closing
+// slash, as a browser's address bar shows it, gives links with one slash
+// after the host. It printed http://HOST:8080//signin#… and every demo
+// expert's link with "//e/", which the server does not route.
+func TestServeBaseURLWithClosingSlash(t *testing.T) {
+	_, out, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: filepath.Join(t.TempDir(), "p.db"), baseURL: "http://192.0.2.1:8080/"})
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+	text := out.String()
+	if strings.Contains(text, "8080//") || !strings.Contains(text, "http://192.0.2.1:8080/signin#") || !strings.Contains(text, "http://192.0.2.1:8080/e/") {
+		t.Errorf("links with a doubled slash, or none:\n%s", text)
+	}
+}
+
+// TestServeRefusesABadBaseURL: --base-url is checked as
+// facilitator-reset checks it, before anything is opened; "nonsense"
+// printed the sign-in address as nonsense/signin#….
+func TestServeRefusesABadBaseURL(t *testing.T) {
+	for _, bad := range []string{"nonsense", "192.0.2.1:8080", "ftp://192.0.2.1:21", "http://192.0.2.1:8080/parley", "http://192.0.2.1:8080/?x=1"} {
+		dbPath := filepath.Join(t.TempDir(), "p.db")
+		ctx, cancel := context.WithCancel(context.Background())
+		cancel() // a server that starts anyway stops at once
+		var out, errOut syncBuffer
+		err := serve(ctx, serveConfig{addr: "127.0.0.1:0", db: dbPath, baseURL: bad, noDemo: true}, &out, &errOut)
+		if err == nil || fail(io.Discard, "serve", err) != exitBadInput || !strings.Contains(err.Error(), "--base-url") {
+			t.Errorf("--base-url %q: %v; want bad input naming --base-url\n%s", bad, err, out.String())
+		}
+		if _, serr := os.Stat(dbPath); serr == nil {
+			t.Errorf("--base-url %q: the database was created though the flag was refused", bad)
+		}
+	}
+}
+
+// TestFacilitatorResetChecksAddr: --addr makes the printed address, so a
+// value that makes none is refused before the secret changes; it printed
+// "http:///signin#…" for --addr "" with every browser signed out. The
+// wildcard address is printed as serve prints it, 127.0.0.1.
+func TestFacilitatorResetChecksAddr(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(dbPath)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	ctx := context.Background()
+	check(t, db.SetFacilitatorHash(ctx, []byte("old hash")))
+	for _, bad := range []string{"", "8080", "foo bar:8080", "host:port", "127.0.0.1:"} {
+		var out, errOut bytes.Buffer
+		if code := runFacilitatorReset([]string{"--db", dbPath, "--addr", bad}, nil, &out, &errOut); code != exitBadInput || !strings.Contains(errOut.String(), "--addr") || out.Len() != 0 {
+			t.Errorf("--addr %q: exit %d, %q %q; want 2 naming --addr and nothing printed", bad, code, errOut.String(), out.String())
+		}
+		if h, _ := db.FacilitatorHash(ctx); string(h) != "old hash" {
+			t.Fatalf("--addr %q: the secret changed though the flag was refused", bad)
+		}
+	}
+	var out, errOut bytes.Buffer
+	if code := runFacilitatorReset([]string{"--db", dbPath, "--addr", "0.0.0.0:8080"}, nil, &out, &errOut); code != exitOK ||
+		!regexp.MustCompile(`http://127\.0\.0\.1:8080/signin#[A-Za-z0-9_-]{43}\n`).MatchString(out.String()) {
+		t.Errorf("--addr 0.0.0.0:8080: exit %d: %q", code, out.String())
 	}
 }
