@@ -2,9 +2,12 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 	"io"
+	"io/fs"
 	"os"
+	"path/filepath"
 
 	"github.com/parley-elicit/parley/store"
 )
@@ -30,6 +33,9 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	}
 	if _, err := os.Lstat(*out); err == nil {
 		return fail(stderr, "backup", badInput("out", "%s already exists; backup never overwrites", *out))
+	}
+	if err := inFolder("out", *out); err != nil {
+		return fail(stderr, "backup", err)
 	}
 	db, err := openExisting(*dbPath)
 	if err != nil {
@@ -66,12 +72,46 @@ func openExisting(path string) (*store.DB, error) {
 	if path == "" {
 		return nil, badInput("db", "a database file is required")
 	}
-	if _, err := os.Stat(path); err != nil {
-		return nil, badInput("db", "%v", err)
+	if err := existingDatabase(path); err != nil {
+		return nil, err
 	}
 	db, err := store.Open(path)
 	if err != nil {
 		return nil, fmt.Errorf("open %s: %w", path, err)
 	}
 	return db, nil
+}
+
+// existingDatabase checks that --db names a file that exists: not a
+// folder, whose many names (a folder's "." and "..") read as hard links
+// the store refuses, nor a mistyped name.
+func existingDatabase(path string) error {
+	fi, err := os.Stat(path)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return badInput("db", "no database file %s (give the file the server uses, parley.db unless its --db said otherwise)", path)
+	case err != nil:
+		return badInput("db", "%v", err)
+	case fi.IsDir():
+		return badInput("db", "%s is a folder; name the database file in it", path)
+	}
+	return nil
+}
+
+// inFolder checks that the file a flag names can be made where it is
+// named: its folder exists and is a folder. Left to the write, a missing
+// folder was reported by the name of a temporary file nobody typed, with
+// exit status 1.
+func inFolder(flag, path string) error {
+	dir := filepath.Dir(path)
+	fi, err := os.Stat(dir)
+	switch {
+	case errors.Is(err, fs.ErrNotExist):
+		return badInput(flag, "the folder %s does not exist; create it, or name a file in an existing folder", dir)
+	case err != nil:
+		return badInput(flag, "%v", err)
+	case !fi.IsDir():
+		return badInput(flag, "%s is not a folder", dir)
+	}
+	return nil
 }

@@ -5,6 +5,7 @@ import (
 	"context"
 	"errors"
 	"io"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"time"
@@ -117,8 +118,16 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 		}
 		return writeInto(path, write)
 	}
+	if err := inFolder("out", path); err != nil {
+		return err
+	}
 	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".*")
 	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			// The temporary name is no name the user gave.
+			return badInput("out", "cannot make a file in %s: %v", filepath.Dir(name), pe.Err)
+		}
 		return err
 	}
 	defer func() {

@@ -63,8 +63,8 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		defer f.Close()
 		r = f
 	}
-	if _, err := os.Stat(*dbPath); err != nil {
-		return fail(stderr, "import-answers", badInput("db", "%v", err))
+	if err := existingDatabase(*dbPath); err != nil {
+		return fail(stderr, "import-answers", err)
 	}
 	db, err := store.Open(*dbPath)
 	if err != nil {

@@ -596,3 +596,47 @@ func TestImportTakesADayObservedBeforeTheRule(t *testing.T) {
 		t.Errorf("a new batch observed in 0026: %v, want %q", err, input.RuleDateTooEarly)
 	}
 }
+
+// TestStoreCommandsNameAFolderOrAMissingOne: a --db that is a folder, or
+// an --out or new --db in a folder that does not exist, is refused as
+// bad input (exit 2) naming the flag and the folder, and nothing is
+// written. A folder given as --db was said to be "one file with 3392
+// names (hard links)" (a folder's "." and ".." are links), exit 1; a
+// missing folder was named by a temporary file nobody typed
+// ("open /nowhere/.x.json.351948201"), exit 1.
+func TestStoreCommandsNameAFolderOrAMissingOne(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	record := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,\n")
+	folder := t.TempDir()
+	missing := filepath.Join(t.TempDir(), "nowhere")
+	for _, c := range []struct {
+		args []string
+		says string
+	}{
+		{[]string{"export", "--db", folder, "--workshop", ws}, "--db: " + folder + " is a folder"},
+		{[]string{"backup", "--db", folder, "--out", filepath.Join(t.TempDir(), "copy.db")}, "--db: " + folder + " is a folder"},
+		{[]string{"import", "--db", folder, "--in", record}, "--db: " + folder + " is a folder"},
+		{[]string{"import-answers", "--db", folder, "--workshop", ws, "--in", sheet}, "--db: " + folder + " is a folder"},
+		{[]string{"facilitator-reset", "--db", folder}, "--db: " + folder + " is a folder"},
+		{[]string{"export", "--db", path, "--workshop", ws, "--out", filepath.Join(missing, "r.json")}, "--out: the folder " + missing + " does not exist"},
+		{[]string{"export", "--db", path, "--workshop", ws, "--out", filepath.Join(record, "r.json")}, "--out: " + record + " is not a folder"},
+		{[]string{"backup", "--db", path, "--out", filepath.Join(missing, "copy.db")}, "--out: the folder " + missing + " does not exist"},
+		{[]string{"import", "--db", filepath.Join(missing, "new.db"), "--in", record}, "--db: the folder " + missing + " does not exist"},
+	} {
+		code, out, errs := run(c.args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, c.says) || strings.Count(errs, "\n") != 1 {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 saying %q", c.args, code, out, errs, c.says)
+		}
+	}
+	if entries, _ := os.ReadDir(folder); len(entries) != 0 {
+		t.Errorf("a refused command wrote into the folder given as --db: %v", entries)
+	}
+	if _, err := os.Stat(missing); !os.IsNotExist(err) {
+		t.Error("a refused command made the missing folder")
+	}
+}
