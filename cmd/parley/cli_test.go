@@ -661,3 +661,17 @@ func TestPlanTextWritesCountsInPlainDigits(t *testing.T) {
 		t.Errorf("plan text:\n%s", out)
 	}
 }
+
+// TestNegativeZeroBoundIsWrittenAsZero: a bound typed as -0 is 0 in the
+// text and the JSON; it was "Beta(2.02244, 40.5924) on [-0, 1]" and
+// "lower": -0.
+func TestNegativeZeroBoundIsWrittenAsZero(t *testing.T) {
+	code, out, errs := run("fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12", "--lower", "-0")
+	if code != exitOK || !strings.Contains(out, "on [0, 1]") || strings.Contains(out, "[-0") {
+		t.Errorf("fit --lower -0: exit %d, %q %q", code, out, errs)
+	}
+	code, out, errs = run("prior", "--uniform", "--lower", "-1", "--upper", "-0", "--format", "json")
+	if code != exitOK || strings.Contains(out, ": -0,") || strings.Contains(out, ": -0\n") {
+		t.Errorf("prior --upper -0: exit %d, %q %q", code, out, errs)
+	}
+}

@@ -70,6 +70,27 @@ func TestNumber(t *testing.T) {
 	}
 }
 
+// TestNegativeZeroIsZero: a zero typed with a minus sign is the number
+// 0, not IEEE −0, which strconv and encoding/json write back as "-0":
+// `parley fit --lower -0` printed "Beta(…) on [-0, 1]" and its JSON
+// "lower": -0.
+func TestNegativeZeroIsZero(t *testing.T) {
+	for _, raw := range []string{"-0", "-0.0", "-.0", "-0e5", "-0.000e-999", " -0 "} {
+		v, err := Number("lower", raw)
+		if err != nil || v != 0 || math.Signbit(v) {
+			t.Errorf("Number(%q) = %v (sign bit %v), %v; want 0", raw, v, math.Signbit(v), err)
+		}
+		p, err := Percent("lower", raw)
+		if err != nil || p != 0 || math.Signbit(p) {
+			t.Errorf("Percent(%q) = %v (sign bit %v), %v; want 0", raw, p, math.Signbit(p), err)
+		}
+	}
+	vs, err := Numbers("values", "-0, -0.5")
+	if err != nil || math.Signbit(vs[0]) || vs[1] != -0.5 {
+		t.Errorf("Numbers = %v, %v; want [0 -0.5]", vs, err)
+	}
+}
+
 // FuzzNumber checks that the parser never panics and accepts
 // only finite numbers written in plain decimal notation that strconv reads
 // to the same value.

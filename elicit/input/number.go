@@ -54,6 +54,11 @@ func Number(field, raw string) (float64, error) {
 	if roundsToZero(s, v) {
 		return 0, &elicit.InputError{Field: field, Rule: RuleUnderflow, Detail: fmt.Sprintf("got %q", Clip(s, 24))}
 	}
+	if v == 0 {
+		// −0 is 0: kept as IEEE negative zero it was written back as
+		// "-0", a bound shown as [-0, 1].
+		v = 0
+	}
 	return v, nil
 }
 
@@ -84,7 +89,10 @@ func Percent(field, raw string) (float64, error) {
 		return 0, err
 	}
 	s := strings.TrimSpace(raw)
-	if p := percentOf(v, s); p != 0 || v == 0 {
+	if v == 0 {
+		return 0, nil
+	}
+	if p := percentOf(v, s); p != 0 {
 		return p, nil
 	}
 	return 0, &elicit.InputError{Field: field, Rule: RuleUnderflow, Detail: fmt.Sprintf("got %q%%", Clip(s, 24))}
