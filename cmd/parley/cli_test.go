@@ -675,3 +675,32 @@ func TestNegativeZeroBoundIsWrittenAsZero(t *testing.T) {
 		t.Errorf("prior --upper -0: exit %d, %q %q", code, out, errs)
 	}
 }
+
+// TestPoolKeepsItsJSONShape: "probs": [] asks for no quantiles, and the
+// pool's quantiles and quantile_detail are then empty arrays, as every
+// other list of the output is, not null (the linear pool printed
+// "quantiles": null, the log pool "quantile_detail": null); a JSON -0
+// bound is 0; one expert is "1 expert".
+func TestPoolKeepsItsJSONShape(t *testing.T) {
+	for _, method := range []string{"linear", "log"} {
+		in := `{"experts":[{"alpha":2,"beta":30}],"probs":[],"lower":-0,"method":"` + method + `"}`
+		code, out, errOut := runCLI(t, in, "pool", "--format", "json")
+		if code != exitOK {
+			t.Fatalf("%s: exit %d: %s", method, code, errOut)
+		}
+		var got map[string]any
+		decodeJSON(t, out, &got)
+		for _, key := range []string{"probs", "quantiles", "quantile_detail", "warnings"} {
+			if a, ok := got[key].([]any); !ok || len(a) != 0 {
+				t.Errorf("%s: %s is %#v, want []", method, key, got[key])
+			}
+		}
+		if strings.Contains(out, "-0") {
+			t.Errorf("%s: a bound written -0:\n%s", method, out)
+		}
+		code, out, errOut = runCLI(t, in, "pool")
+		if code != exitOK || !strings.HasPrefix(out, method+" pool of 1 expert on [0, 1]:") {
+			t.Errorf("%s: exit %d, %q %q", method, code, out, errOut)
+		}
+	}
+}

@@ -201,11 +201,13 @@ func inputFields(err error) error {
 
 func poolResult(in poolInput) (poolOutput, error) {
 	lower, upper := 0.0, 1.0
+	// + 0 turns a JSON -0 into 0, as input.Number reads a typed -0: the
+	// pool was printed "on [-0, 1]".
 	if in.Lower != nil {
-		lower = *in.Lower
+		lower = *in.Lower + 0
 	}
 	if in.Upper != nil {
-		upper = *in.Upper
+		upper = *in.Upper + 0
 	}
 	if len(in.Experts) > maxPoolExperts {
 		return poolOutput{}, &elicit.InputError{Field: "experts", Rule: elicit.RuleCount, Detail: fmt.Sprintf("at most %d, got %d", maxPoolExperts, len(in.Experts))}
@@ -224,7 +226,10 @@ func poolResult(in poolInput) (poolOutput, error) {
 	if err != nil {
 		return poolOutput{}, err
 	}
-	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}, Caution: cautionJSON}
+	// quantiles and quantile_detail are arrays, empty for "probs": [],
+	// never null.
+	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}, Caution: cautionJSON,
+		Quantiles: make([]float64, 0, len(probs)), QuantileDetail: []elicit.PoolQuantile{}}
 	switch in.Method {
 	case "", "linear":
 		out.Method = "linear"
@@ -233,9 +238,11 @@ func poolResult(in poolInput) (poolOutput, error) {
 			return poolOutput{}, err
 		}
 		out.pool = p
-		if out.QuantileDetail, err = p.QuantileSet(probs); err != nil {
+		qs, err := p.QuantileSet(probs)
+		if err != nil {
 			return poolOutput{}, err
 		}
+		out.QuantileDetail = append(out.QuantileDetail, qs...)
 		for _, q := range out.QuantileDetail {
 			out.Quantiles = append(out.Quantiles, q.Value)
 			if !q.Unique {
@@ -265,9 +272,8 @@ func poolResult(in poolInput) (poolOutput, error) {
 		if err != nil {
 			return poolOutput{}, err
 		}
-		out.Quantiles = make([]float64, len(probs))
 		for i, pr := range probs {
-			out.Quantiles[i] = d.Quantile(pr)
+			out.Quantiles = append(out.Quantiles, d.Quantile(pr))
 			out.QuantileDetail = append(out.QuantileDetail, elicit.PoolQuantile{Prob: pr, Value: out.Quantiles[i], Unique: true, Low: out.Quantiles[i], High: out.Quantiles[i]})
 		}
 		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), &d.Beta, true
@@ -336,7 +342,7 @@ func poolExperts(experts []poolExpert, lower, upper float64) ([]elicit.ScaledBet
 func writePoolText(w io.Writer, o poolOutput) error {
 	var b strings.Builder
 	in := func(x float64) string { return within(x, o.Lower, o.Upper) }
-	fmt.Fprintf(&b, "%s pool of %d experts on [%g, %g]: mean %s, sd %.6g\n", o.Method, o.Experts, o.Lower, o.Upper, in(o.Mean), o.SD)
+	fmt.Fprintf(&b, "%s pool of %s on [%g, %g]: mean %s, sd %.6g\n", o.Method, countOf(o.Experts, "expert", "experts"), o.Lower, o.Upper, in(o.Mean), o.SD)
 	for i, p := range o.Probs {
 		fmt.Fprintf(&b, "  quantile %-8g %s", p, in(o.Quantiles[i]))
 		if x := o.Quantiles[i]; (x == o.Lower || x == o.Upper) && o.heldAsBound {
