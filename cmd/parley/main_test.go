@@ -2,6 +2,8 @@ package main
 
 import (
 	"bytes"
+	"os"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -26,5 +28,36 @@ func TestDispatchHelpAndUnknown(t *testing.T) {
 	var out, errb bytes.Buffer
 	if code := dispatch([]string{"fitt"}, strings.NewReader(""), &out, &errb); code != exitBadInput || !strings.Contains(errb.String(), `unknown command "fitt"`) {
 		t.Errorf("unknown command: exit %d, stderr %q", code, errb.String())
+	}
+}
+
+// TestREADMENamesEveryCommandAndFlag: every command `parley help` lists,
+// and every flag its -h lists, is in README.md, the public contract
+// of the command line. calibrate's --overshoot and --leave-one-out and
+// plan's --exhaustive were in the code and their -h alone.
+func TestREADMENamesEveryCommandAndFlag(t *testing.T) {
+	readme, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	text := string(readme)
+	flagLine := regexp.MustCompile(`(?m)^  -([a-z][a-z-]*)`)
+	for name := range commands {
+		if !strings.Contains(text, "parley "+name+" ") && !strings.Contains(text, "`"+name+"`") {
+			t.Errorf("README.md does not name the command %s", name)
+		}
+		var out, errb bytes.Buffer
+		if code := dispatch([]string{name, "-h"}, strings.NewReader(""), &out, &errb); code != exitOK {
+			t.Fatalf("%s -h: exit %d, %s", name, code, errb.String())
+		}
+		flags := flagLine.FindAllStringSubmatch(out.String(), -1)
+		if len(flags) == 0 {
+			t.Errorf("%s -h lists no flags:\n%s", name, out.String())
+		}
+		for _, f := range flags {
+			if !regexp.MustCompile("--" + regexp.QuoteMeta(f[1]) + `\b`).MatchString(text) {
+				t.Errorf("README.md does not name %s's flag --%s", name, f[1])
+			}
+		}
 	}
 }
