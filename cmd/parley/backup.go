@@ -9,6 +9,8 @@ import (
 	"os"
 	"path/filepath"
 
+	"github.com/mattn/go-sqlite3"
+
 	"github.com/parley-elicit/parley/store"
 )
 
@@ -77,9 +79,20 @@ func openExisting(path string) (*store.DB, error) {
 	}
 	db, err := store.Open(path)
 	if err != nil {
-		return nil, fmt.Errorf("open %s: %w", path, err)
+		return nil, notADatabase(path, fmt.Errorf("open %s: %w", path, err))
 	}
 	return db, nil
+}
+
+// notADatabase turns SQLite's refusal of a file that is no database (a
+// record or a sheet given as --db by mistake) into bad input naming
+// --db; other errors pass unchanged.
+func notADatabase(path string, err error) error {
+	var se sqlite3.Error
+	if errors.As(err, &se) && se.Code == sqlite3.ErrNotADB {
+		return badInput("db", "%s is not a Parley database (SQLite reads no database in it); give the file the server uses", path)
+	}
+	return err
 }
 
 // existingDatabase checks that --db names a file that exists: not a

@@ -69,7 +69,7 @@ func importInto(path string, rec record.Checked) (int64, error) {
 	if _, err := os.Stat(path); err == nil {
 		db, err := store.Open(path)
 		if err != nil {
-			return 0, err
+			return 0, notADatabase(path, err)
 		}
 		id, err := db.ImportChecked(context.Background(), rec)
 		return id, errors.Join(err, db.Close())

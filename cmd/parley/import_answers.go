@@ -68,7 +68,7 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	}
 	db, err := store.Open(*dbPath)
 	if err != nil {
-		return fail(stderr, "import-answers", err)
+		return fail(stderr, "import-answers", notADatabase(*dbPath, err))
 	}
 	defer db.Close()
 	ctx := context.Background()

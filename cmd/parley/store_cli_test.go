@@ -640,3 +640,34 @@ func TestStoreCommandsNameAFolderOrAMissingOne(t *testing.T) {
 		t.Error("a refused command made the missing folder")
 	}
 }
+
+// TestStoreCommandsRefuseAFileThatIsNoDatabase: a --db that names some
+// other file (the exported record, by a slip) is bad input naming --db,
+// exit 2, and the file is left as it was; it was "store: open …: file is
+// not a database", exit 1.
+func TestStoreCommandsRefuseAFileThatIsNoDatabase(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	record := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	before, err := os.ReadFile(record)
+	check(t, err)
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,\n")
+	for _, args := range [][]string{
+		{"export", "--db", record, "--workshop", ws},
+		{"backup", "--db", record, "--out", filepath.Join(t.TempDir(), "copy.db")},
+		{"import", "--db", record, "--in", record},
+		{"import-answers", "--db", record, "--workshop", ws, "--in", sheet},
+		{"facilitator-reset", "--db", record},
+	} {
+		code, out, errs := run(args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, "--db: "+record+" is not a Parley database") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 naming --db", args, code, out, errs)
+		}
+	}
+	if after, _ := os.ReadFile(record); !bytes.Equal(before, after) {
+		t.Error("a refused command changed the file given as --db")
+	}
+}
