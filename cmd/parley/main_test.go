@@ -6,6 +6,8 @@ import (
 	"regexp"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // Flags with no command go to serve: `parley --addr X` is `parley serve --addr X`.
@@ -59,5 +61,26 @@ func TestREADMENamesEveryCommandAndFlag(t *testing.T) {
 				t.Errorf("README.md does not name %s's flag --%s", name, f[1])
 			}
 		}
+	}
+}
+
+// TestHelpGivesTheRanges: the -h of update and plan gives the shapes'
+// range and update's trials as the code checks them; it said "(> 0)",
+// which 1e-7 and 1e8 meet and are refused.
+func TestHelpGivesTheRanges(t *testing.T) {
+	if elicit.MinShape != 1e-6 || elicit.MaxShape != 1e7 || elicit.MaxUpdateTrials != 1_000_000 {
+		t.Fatal("the envelope changed: change the -h texts of update and plan with it")
+	}
+	for _, name := range []string{"update", "plan"} {
+		var out, errb bytes.Buffer
+		dispatch([]string{name, "-h"}, strings.NewReader(""), &out, &errb)
+		if strings.Count(out.String(), "from 1e-6 to 1e7") != 2 {
+			t.Errorf("%s -h does not give alpha's and beta's range:\n%s", name, out.String())
+		}
+	}
+	var out, errb bytes.Buffer
+	dispatch([]string{"update", "-h"}, strings.NewReader(""), &out, &errb)
+	if !strings.Contains(out.String(), "0 to 1000000") {
+		t.Errorf("update -h does not give the trials' range:\n%s", out.String())
 	}
 }

@@ -109,8 +109,8 @@ type planArgs struct {
 func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("plan", stderr)
 	var a planArgs
-	fs.StringVar(&a.alpha, "alpha", "", "prior alpha (> 0)")
-	fs.StringVar(&a.beta, "beta", "", "prior beta (> 0)")
+	fs.StringVar(&a.alpha, "alpha", "", "prior alpha, from 1e-6 to 1e7 (the accuracy envelope)")
+	fs.StringVar(&a.beta, "beta", "", "prior beta, from 1e-6 to 1e7")
 	fs.StringVar(&a.trials, "trials", "", fmt.Sprintf("planned number of trials (1 to %d)", elicit.MaxPredictiveTrials))
 	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1")
 	fs.StringVar(&a.direction, "direction", "", "assurance: below (success when P(θ < T | data) ≥ G) or above (P(θ > T | data) ≥ G)")

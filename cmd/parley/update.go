@@ -55,10 +55,10 @@ func (o *updateOutput) warn(code, message string) {
 
 func runUpdate(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("update", stderr)
-	alphaArg := fs.String("alpha", "", "prior alpha (> 0)")
-	betaArg := fs.String("beta", "", "prior beta (> 0)")
-	sArg := fs.String("successes", "", "observed successes (whole number, at most trials)")
-	nArg := fs.String("trials", "", "observed trials (whole number)")
+	alphaArg := fs.String("alpha", "", "prior alpha, from 1e-6 to 1e7 (the accuracy envelope)")
+	betaArg := fs.String("beta", "", "prior beta, from 1e-6 to 1e7")
+	sArg := fs.String("successes", "", "observed successes (whole number, at most --trials)")
+	nArg := fs.String("trials", "", "observed trials (whole number, 0 to 1000000)")
 	levelArg := fs.String("level", "0.95", "credible level of the intervals, strictly between 0 and 1")
 	format := fs.String("format", "text", "output: text or json")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
