@@ -43,9 +43,24 @@ func parseArgs(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code 
 		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), fmt.Errorf("%w: %v", errBadInput, err)), false
 	}
 	if fs.NArg() > 0 {
-		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), badInput(fs.Arg(0), "unexpected argument (every input is a --flag)")), false
+		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), strayArgument(args, len(args)-fs.NArg())), false
 	}
 	return exitOK, true
+}
+
+// strayArgument describes args[i], a word that is no flag nor a flag's
+// value, where flag parsing stopped. Most often it is the rest of a list
+// typed with spaces (--probs 0.05, 0.5, 0.95), so the flag before it is
+// named; it was reported as a flag of its own, "--0.5,: unexpected
+// argument".
+func strayArgument(args []string, i int) error {
+	stray := input.Clip(args[i], 24)
+	if i >= 2 && strings.HasPrefix(args[i-2], "-") && !strings.Contains(args[i-2], "=") {
+		name := strings.TrimLeft(args[i-2], "-")
+		return badInput(name, "unexpected argument %q after its value %q: every input is a --flag with one value; "+
+			"put a list with spaces in quotes (\"0.05, 0.5, 0.95\") or leave the spaces out", stray, input.Clip(args[i-1], 24))
+	}
+	return fmt.Errorf("%w: unexpected argument %q (every input is a --flag with its value, such as --format json)", errBadInput, stray)
 }
 
 // checkFormat accepts the output formats text and json.
