@@ -2,7 +2,10 @@ package main
 
 import (
 	"bytes"
+	"encoding/json"
 	"os"
+	"os/exec"
+	"path/filepath"
 	"regexp"
 	"strings"
 	"testing"
@@ -82,5 +85,66 @@ func TestHelpGivesTheRanges(t *testing.T) {
 	dispatch([]string{"update", "-h"}, strings.NewReader(""), &out, &errb)
 	if !strings.Contains(out.String(), "0 to 1000000") {
 		t.Errorf("update -h does not give the trials' range:\n%s", out.String())
+	}
+}
+
+// TestREADMEExamplesRun runs every example of README.md's scripting
+// sections as written, through a shell, with the built binary as
+// `parley` and the repository as the working folder: each exits 0 with
+// nothing on stderr, each --format json prints one JSON object, and a
+// Beta named in an example's comment is the one printed.
+func TestREADMEExamplesRun(t *testing.T) {
+	if testing.Short() {
+		t.Skip("builds the binary")
+	}
+	readme, err := os.ReadFile("../../README.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	bin := t.TempDir()
+	if err := os.Symlink(parleyBinary(t), filepath.Join(bin, "parley")); err != nil {
+		t.Fatal(err)
+	}
+	blocks := regexp.MustCompile("(?s)```sh\n(.*?)```").FindAllStringSubmatch(string(readme), -1)
+	var examples []string
+	for _, b := range blocks {
+		// Usage synopses carry [optional] parts and placeholders; the
+		// examples are whole commands.
+		if strings.Contains(b[1], "[--") || strings.Contains(b[1], "go run") {
+			continue
+		}
+		for _, line := range strings.Split(b[1], "\n") {
+			switch {
+			case strings.TrimSpace(line) == "", strings.HasPrefix(line, "#"):
+			case strings.HasPrefix(line, " ") && len(examples) > 0:
+				examples[len(examples)-1] += "\n" + line
+			default:
+				examples = append(examples, line)
+			}
+		}
+	}
+	if len(examples) < 13 {
+		t.Fatalf("found %d examples in README.md; the scripting sections have more", len(examples))
+	}
+	betaInComment := regexp.MustCompile(`# .*?(Beta\([0-9.]+, [0-9.]+\))`)
+	for _, ex := range examples {
+		cmd := exec.Command("/bin/sh", "-c", ex)
+		cmd.Dir = "../.."
+		cmd.Env = append(os.Environ(), "PATH="+bin+string(os.PathListSeparator)+os.Getenv("PATH"))
+		var out, errOut bytes.Buffer
+		cmd.Stdout, cmd.Stderr = &out, &errOut
+		if err := cmd.Run(); err != nil || errOut.Len() != 0 {
+			t.Errorf("%s\n%v: %s", ex, err, errOut.String())
+			continue
+		}
+		if strings.Contains(ex, "--format json") {
+			var v map[string]any
+			dec := json.NewDecoder(&out)
+			if err := dec.Decode(&v); err != nil || dec.More() {
+				t.Errorf("%s\nprints no single JSON object: %v", ex, err)
+			}
+		} else if m := betaInComment.FindStringSubmatch(ex); m != nil && !strings.Contains(out.String(), m[1]) {
+			t.Errorf("%s\nprints no %s:\n%s", ex, m[1], out.String())
+		}
 	}
 }
