@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"crypto/tls"
 	"errors"
 	"fmt"
 	"io"
@@ -84,6 +85,18 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	baseURL, err := checkBaseURL(c.baseURL)
 	if err != nil {
 		return err
+	}
+	// The certificate is read before anything is opened or printed: read
+	// by ServeTLS, a missing or broken one stopped the server after it
+	// had said "serving at" and printed the one-time sign-in address and
+	// the demo's expert links, which are shown once.
+	var tlsConfig *tls.Config
+	if c.tlsCert != "" {
+		cert, err := loadKeyPair(c.tlsCert, c.tlsKey)
+		if err != nil {
+			return err
+		}
+		tlsConfig = &tls.Config{Certificates: []tls.Certificate{cert}}
 	}
 	dbPath, err := filepath.Abs(c.db)
 	if err != nil {
@@ -178,6 +191,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	}
 
 	hs := &http.Server{
+		TLSConfig:         tlsConfig,
 		Handler:           srv.Handler(),
 		ReadHeaderTimeout: 10 * time.Second,
 		ReadTimeout:       30 * time.Second,
@@ -191,7 +205,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	errc := make(chan error, 1)
 	go func() {
 		if c.tlsCert != "" {
-			errc <- hs.ServeTLS(ln, c.tlsCert, c.tlsKey)
+			errc <- hs.ServeTLS(ln, "", "") // the pair loaded at start
 		} else {
 			errc <- hs.Serve(ln)
 		}
@@ -221,6 +235,29 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		err = e
 	}
 	return err
+}
+
+// loadKeyPair reads the TLS certificate and key, naming the flag whose
+// file is missing or unreadable, or, for a pair that does not make a
+// key pair, the flag the error concerns.
+func loadKeyPair(certFile, keyFile string) (tls.Certificate, error) {
+	certPEM, err := os.ReadFile(certFile)
+	if err != nil {
+		return tls.Certificate{}, badInput("tls-cert", "%v", err)
+	}
+	keyPEM, err := os.ReadFile(keyFile)
+	if err != nil {
+		return tls.Certificate{}, badInput("tls-key", "%v", err)
+	}
+	cert, err := tls.X509KeyPair(certPEM, keyPEM)
+	if err != nil {
+		flag := "tls-cert"
+		if strings.Contains(err.Error(), "key input") || strings.Contains(err.Error(), "private key") {
+			flag = "tls-key"
+		}
+		return tls.Certificate{}, badInput(flag, "%s and %s make no TLS key pair: %v", certFile, keyFile, err)
+	}
+	return cert, nil
 }
 
 // checkBaseURL reads --base-url: "" (links from --addr), or http:// or

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"crypto/ecdsa"
 	"crypto/elliptic"
 	"crypto/rand"
@@ -116,5 +117,43 @@ func TestServeTLS(t *testing.T) {
 	}
 	if err := stop(); err != nil {
 		t.Fatalf("graceful shutdown: %v", err)
+	}
+}
+
+// TestServeRefusesABadCertificateBeforeItStarts: a missing or broken
+// certificate or key is bad input naming its flag, and the server opens
+// nothing and prints nothing: it said "serving at https://…", printed the
+// one-time sign-in address (and, on a first start, the demo's expert
+// links, shown once), then stopped with exit 1 and "open …: no such
+// file or directory".
+func TestServeRefusesABadCertificateBeforeItStarts(t *testing.T) {
+	dir := t.TempDir()
+	certPath, keyPath, _ := selfSigned(t, dir)
+	broken := filepath.Join(dir, "broken.pem")
+	if err := os.WriteFile(broken, []byte("not a certificate"), 0o600); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ cert, key, flag string }{
+		{filepath.Join(dir, "missing.pem"), keyPath, "--tls-cert"},
+		{certPath, filepath.Join(dir, "missing.key"), "--tls-key"},
+		{broken, keyPath, "--tls-cert"},
+		{certPath, broken, "--tls-key"},
+		{keyPath, certPath, "--tls-"},
+		{dir, keyPath, "--tls-cert"},
+	} {
+		dbPath := filepath.Join(t.TempDir(), "parley.db")
+		ctx, cancel := context.WithCancel(context.Background())
+		cancel() // a server that starts anyway stops at once
+		var out, errOut syncBuffer
+		err := serve(ctx, serveConfig{addr: "127.0.0.1:0", db: dbPath, tlsCert: c.cert, tlsKey: c.key}, &out, &errOut)
+		if err == nil || fail(io.Discard, "serve", err) != exitBadInput || !strings.Contains(err.Error(), c.flag) {
+			t.Errorf("--tls-cert %s --tls-key %s: %v; want bad input naming %s", c.cert, c.key, err, c.flag)
+		}
+		if out.String() != "" {
+			t.Errorf("--tls-cert %s --tls-key %s printed:\n%s", c.cert, c.key, out.String())
+		}
+		if _, serr := os.Stat(dbPath); serr == nil {
+			t.Errorf("--tls-cert %s --tls-key %s: the database was created", c.cert, c.key)
+		}
 	}
 }
