@@ -245,6 +245,16 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	}
 	if v.Ready {
 		v.Compare = workshop.ComparePools(d.Questions, d.Experts, d.Revisions, perf)
+		if v.Perf == nil {
+			// No weights were formed (a cut-off refused, a panel the
+			// model cannot score): the performance pool is not one of
+			// experts all at weight 0, as the empty weights read.
+			for i := range v.Compare {
+				if v.Compare[i].Equal != nil { // a question with fits
+					v.Compare[i].Performance, v.Compare[i].PerformanceError = nil, noPerformancePool
+				}
+			}
+		}
 	}
 	if !forms.alpha.OK() && status < 400 {
 		status = http.StatusBadRequest
@@ -257,6 +267,10 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	m.Caution = true
 	s.renderPage(w, r, status, m, calibrationPage(v))
 }
+
+// noPerformancePool stands in the comparison's performance rows when
+// the page has no scores to weight by.
+const noPerformancePool = "no performance weights: the scores above could not be computed"
 
 func sameWeightMap(a, b map[int64]float64) bool {
 	if len(a) != len(b) {

@@ -1,0 +1,38 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+)
+
+// A cut-off the page refuses (above every expert's calibration score, or
+// not a number) gives no performance weights, so the target questions'
+// comparison has no performance pool to show. It said "every expert who
+// answered this question has performance weight 0", which is not so: no
+// weights were formed at all.
+func TestRefusedCutOffMakesNoClaimAboutThePerformancePool(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	for _, a := range []string{"0.99", "50%"} {
+		res, body := p.h.get(p.path() + "?alpha=" + url.QueryEscape(a))
+		if res.StatusCode != http.StatusBadRequest {
+			t.Fatalf("alpha %s: %d, want 400", a, res.StatusCode)
+		}
+		if strings.Contains(body, "has performance weight 0") {
+			t.Errorf("alpha %s: the comparison says every expert has performance weight 0, though no weights were formed", a)
+		}
+		if !strings.Contains(body, noPerformancePool) {
+			t.Errorf("alpha %s: the comparison does not say why it has no performance pool", a)
+		}
+		if got := strings.Count(body, noPerformancePool); got != len(p.targets) {
+			t.Errorf("alpha %s: %d rows say why, want one per target question (%d)", a, got, len(p.targets))
+		}
+	}
+	// With the cut-off accepted the performance pools are shown.
+	_, body := p.h.get(p.path())
+	if strings.Contains(body, noPerformancePool) {
+		t.Error("the performance pools are missing with the cut-off optimised")
+	}
+}
