@@ -228,8 +228,9 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 			// status); a panel the model cannot score is the page's news.
 			if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Field == "alpha" {
 				forms.alpha.Fail(err, nil)
+			} else {
+				v.PerfError = s.scoringProblem(err, d)
 			}
-			v.PerfError = s.scoringProblem(err, d)
 		} else {
 			v.Perf = &p
 			perf = p.WeightsByExpert()

@@ -36,3 +36,21 @@ func TestRefusedCutOffMakesNoClaimAboutThePerformancePool(t *testing.T) {
 		t.Error("the performance pools are missing with the cut-off optimised")
 	}
 }
+
+// A cut-off above every expert's calibration score is the cut-off's
+// fault, refused beside its field; the page said "The classical model
+// could not score the panel: must not exceed …", as if the panel were.
+func TestCutOffAboveEveryScoreIsTheCutOffsRefusal(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	res, body := p.h.get(p.path() + "?alpha=0.99")
+	if res.StatusCode != http.StatusBadRequest || !hasFieldError(body, "alpha") {
+		t.Fatalf("alpha 0.99: %d, field error %v", res.StatusCode, hasFieldError(body, "alpha"))
+	}
+	if strings.Contains(body, "could not score the panel") {
+		t.Error("a cut-off above every score is said to be the panel's failure")
+	}
+	if !strings.Contains(body, "No scores with the cut-off typed below") {
+		t.Error("the page does not say the scores wait on the cut-off")
+	}
+}
