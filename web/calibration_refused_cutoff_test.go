@@ -54,3 +54,25 @@ func TestCutOffAboveEveryScoreIsTheCutOffsRefusal(t *testing.T) {
 		t.Error("the page does not say the scores wait on the cut-off")
 	}
 }
+
+// A fixed cut-off is written as typed, in plain decimals; a tiny one
+// typed as 1e-320 was written with 320 zeros, one unbroken line that ran
+// off a phone's screen and a projector's.
+func TestTinyFixedCutOffIsWrittenShort(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	res, body := p.h.get(p.path() + "?alpha=1e-320")
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("alpha 1e-320: %d", res.StatusCode)
+	}
+	if strings.Contains(body, strings.Repeat("0", 40)) {
+		t.Error("the cut-off 1e-320 is written with hundreds of zeros")
+	}
+	if !strings.Contains(body, "Cut-off α = 1e-320, fixed by the facilitator") {
+		t.Error("the cut-off 1e-320 is not written as 1e-320")
+	}
+	// An ordinary cut-off keeps its plain decimals, as typed.
+	if _, body := p.h.get(p.path() + "?alpha=0.00005"); !strings.Contains(body, "Cut-off α = 0.00005, fixed by the facilitator") {
+		t.Error("the cut-off 0.00005 is not written as typed")
+	}
+}

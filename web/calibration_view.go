@@ -76,10 +76,21 @@ func alphaSentence(alpha float64, logAlpha *float64, rule string) string {
 	if rule == workshop.AlphaFixed {
 		// As typed: to four figures a cut-off could read as the score
 		// it leaves out.
-		return "Cut-off α = " + input.Typed(alpha, false) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
+		return "Cut-off α = " + typedCutOff(alpha) + ", fixed by the facilitator: experts whose calibration score is below it get weight 0."
 	}
 	return "Cut-off α = " + alphaText(alpha, logAlpha) + ", optimised: of the cut-offs that change the weights, the one under which the performance-weighted pool, " +
 		"scored as if it were an expert, does best on these questions. Experts whose calibration score is below it get weight 0."
+}
+
+// typedCutOff writes a fixed cut-off as typed, in plain decimals, unless
+// that takes more than a line's worth of figures: 1e-320 in plain
+// decimals is 320 zeros, one unbroken line off the screen. It is then
+// written in the shortest exponent form that reads back to it.
+func typedCutOff(alpha float64) string {
+	if s := input.Typed(alpha, false); len(s) <= 20 {
+		return s
+	}
+	return strconv.FormatFloat(alpha, 'g', -1, 64)
 }
 
 // recordLabels are "Q1 quantity" labels of a record's questions by ID.
