@@ -77,9 +77,23 @@ func constructionInput(f *Form, q workshop.Question, method elicit.ConstructionM
 	case method == elicit.MethodMeanSD:
 		in.Mean, in.SD = f.Float("c_mean"), f.Float("c_sd")
 	case method.IsInterval():
-		in.Low, in.High, in.Coverage = f.Float("c_low"), f.Float("c_high"), f.Float("c_coverage")
+		in.Low, in.High, in.Coverage = f.Float("c_low"), f.Float("c_high"), coverageOf(f)
 	}
 	return in
+}
+
+// coverageOf reads the interval's coverage: a fraction (0.9), or a
+// percentage with its sign (90%), as a room says it and as the
+// four-value answer takes its confidence. A plain 90 stays refused by
+// the coverage's rule: it may be a slip for either.
+func coverageOf(f *Form) float64 {
+	const name = "c_coverage"
+	if rest, ok := strings.CutSuffix(strings.TrimSpace(f.Value(name)), "%"); ok {
+		v, err := input.Percent(name, rest)
+		f.failField(name, err)
+		return v
+	}
+	return f.Float(name)
 }
 
 // construct makes the prior of in, recording elicit's refusal beside the

@@ -289,7 +289,7 @@ func constructionFields(f *Form, both bool) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(f, "c_coverage", "Coverage", "e.g. 0.9 for 90% sure").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(f, "c_coverage", "Coverage", "e.g. 0.9 or 90% for 90% sure").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

@@ -1,0 +1,47 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+)
+
+// "90% sure" is how a room says a coverage: the field takes 90% as 0.9,
+// as the four-value answer takes its confidence with a % sign. It was
+// refused as "must be a plain decimal number". A plain 90 is still
+// refused (it could be a slip for 0.90 or for 90%), and so is 150%.
+func TestQuickPriorsCoverageTakesAPercentSign(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	base := url.Values{"question": {strconv.FormatInt(qs[0].ID, 10)}, "construction": {"interval"}, "c_low": {"0.03"}, "c_high": {"0.12"}}
+	get := func(coverage string) (*http.Response, string) {
+		v := url.Values{}
+		for k, x := range base {
+			v[k] = x
+		}
+		v.Set("c_coverage", coverage)
+		return h.get(quickPriorsPath(ws.ID) + "?" + v.Encode())
+	}
+	_, want := get("0.9")
+	c, err := elicit.Construct(elicit.ConstructionInput{Method: elicit.MethodIntervalQuantiles, Low: 0.03, High: 0.12, Coverage: 0.9, Upper: 1})
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, typed := range []string{"90%", " 90 % ", "90.0%"} {
+		res, body := get(typed)
+		if res.StatusCode != http.StatusOK || hasFieldError(body, "c_coverage") {
+			t.Fatalf("coverage %q: %d, refused beside the field %v", typed, res.StatusCode, hasFieldError(body, "c_coverage"))
+		}
+		if !strings.Contains(body, priorLabel(c.Dist)) || !strings.Contains(want, priorLabel(c.Dist)) {
+			t.Errorf("coverage %q: the page lacks %s, the Beta of 0.9", typed, priorLabel(c.Dist))
+		}
+	}
+	for _, typed := range []string{"90", "150%", "100%", "0%", "abc%"} {
+		if res, body := get(typed); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "c_coverage") {
+			t.Errorf("coverage %q: %d, refused beside the field %v", typed, res.StatusCode, hasFieldError(body, "c_coverage"))
+		}
+	}
+}
