@@ -309,7 +309,10 @@ func (s *Server) setTrueValue(w http.ResponseWriter, r *http.Request) {
 		s.notCalibration(w, r, q)
 		return
 	}
-	value := f.Float("true_value")
+	// A proportion's true value takes a % sign, as the experts' answers
+	// to it do.
+	value, _, err := workshop.ParseAnswerNumber("true_value", f.Value("true_value"), q, false)
+	f.failField("true_value", err)
 	if f.Error("true_value") == "" {
 		if err := q.CheckTrueValue(value); err != nil {
 			var ie *elicit.InputError
@@ -396,13 +399,17 @@ func (s *Server) setScale(w http.ResponseWriter, r *http.Request) {
 // truthHint says which true values the question takes
 // (Question.CheckTrueValue): anywhere from its lower to its upper bound,
 // both included, as an observed share can be 0 or 1; on the log scale
-// above 0.
+// above 0. On a proportion it may be typed as a percentage.
 func truthHint(q workshop.Question) string {
 	lower, upper := fvBounds(q.Lower, q.Upper)
-	if q.LogScale {
-		return "Above " + lower + " and at most " + upper + " (the log scale needs it above 0)."
+	pct := ""
+	if q.IsProportion() {
+		pct = " With a % sign it is a percentage: 12.5% is 0.125."
 	}
-	return "From " + lower + " to " + upper + ", either bound included."
+	if q.LogScale {
+		return "Above " + lower + " and at most " + upper + " (the log scale needs it above 0)." + pct
+	}
+	return "From " + lower + " to " + upper + ", either bound included." + pct
 }
 
 // logScaleRefusal says why q cannot be scored on the log scale, in the
