@@ -433,8 +433,14 @@ func TestCalibrateTextFixedCutOffAsTyped(t *testing.T) {
 // who skipped two questions (inverter_seeds_skipped.csv, where the cut-off
 // that keeps only her would score the pool on four of the six questions and
 // is passed over), and with two experts whose counts mirror each other
-// (mirror_seeds.csv: equal calibration scores, kept together), with the
-// cut-off optimised and fixed at 0.1.
+// (mirror_seeds.csv: equal calibration scores, kept together), with a
+// single calibration question whose true value is one expert's median and
+// another's 5% quantile (single_question_seeds.csv: a realisation equal to
+// a quantile counts in the bin below it, as P(X ≤ q) = p, so Jun scores
+// 1 − F_χ²(2 ln 20; 3) = 0.1120, worked by hand from Cooke 1991, §12.3),
+// and with quantiles at 5/25/50/75/95 on percentages, millions and
+// millionths, a true value on a bound and an expert who skipped a question
+// (five_quantile_seeds.csv), with the cut-off optimised and fixed at 0.1.
 func TestCalibrateAgainstSciPy(t *testing.T) {
 	f, err := os.Open("../../testdata/scipy/classical_reference.csv")
 	if err != nil {
@@ -453,8 +459,8 @@ func TestCalibrateAgainstSciPy(t *testing.T) {
 		k := run{row[0], row[1]}
 		want[k] = append(want[k], row[2:])
 	}
-	if len(want) != 10 {
-		t.Fatalf("%d runs in the reference, want 10", len(want))
+	if len(want) != 14 {
+		t.Fatalf("%d runs in the reference, want 14", len(want))
 	}
 	num := func(s string) float64 {
 		v, err := strconv.ParseFloat(s, 64)

@@ -57,6 +57,8 @@ FILES = [
     "testdata/calibration/inverter_seeds_log.csv",
     "testdata/calibration/inverter_seeds_skipped.csv",
     "testdata/calibration/mirror_seeds.csv",
+    "testdata/calibration/single_question_seeds.csv",
+    "testdata/calibration/five_quantile_seeds.csv",
 ]
 K = 0.1
 
