@@ -599,11 +599,34 @@ func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport, s elicit.Scores) 
 			logNote = "; against the log-uniform background, of ln x against its intrinsic range on ln x"
 		}
 	}
-	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range%s): %.4g\n\n", logNote, r.MaxShift)
+	// How many reruns of each kind there are, and how many were done: a
+	// largest shift of 0 over no rerun would claim a steadiness nothing
+	// tested.
+	kinds, done := map[string]int{}, 0
+	for _, c := range r.Cases {
+		kinds[c.LeftOut]++
+		if c.Error == "" {
+			done++
+		}
+	}
+	largest := fmt.Sprintf("%.4g", r.MaxShift)
+	if done == 0 {
+		largest = "none, as no rerun could be done"
+	}
+	fmt.Fprintf(w, "\nLeave one out: largest shift of the pooled 5/50/95 percentiles on any calibration question, as a fraction of its range (its bounds where given, else its intrinsic range%s): %s\n\n", logNote, largest)
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "left out\tname\talpha\tlargest shift\tnote")
 	for _, c := range r.Cases {
 		note := c.Error
+		// Without the only question or the only expert nothing is left
+		// to score; the library's words for it ("wrong number of
+		// entries") say less (the calibration page's rerunError).
+		switch {
+		case note != "" && c.LeftOut == elicit.LeaveOutQuestion && kinds[c.LeftOut] == 1:
+			note = "leaving out the only calibration question leaves nothing to score"
+		case note != "" && c.LeftOut == elicit.LeaveOutExpert && kinds[c.LeftOut] == 1:
+			note = "leaving out the only expert leaves no one to score"
+		}
 		if note == "" && len(c.Unpooled) > 0 {
 			note = "no weighted expert on " + strings.Join(c.Unpooled, ", ")
 		}
