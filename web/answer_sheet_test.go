@@ -236,6 +236,13 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// reason without its column, or a value split by a decimal comma.
 		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", answersheet.RuleExtra},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, answersheet.RuleHeader},
+		// A quote mark inside a cell of a sheet typed by hand (12" for
+		// inches) is not CSV: the read of such a row panicked (the
+		// reader's FieldPos asked of a row it had not returned), a 500 on
+		// the page and a crash of parley import-answers.
+		{"a quote mark inside a cell", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,Pipes of 12\" bore\n", "row 3, column reason", answersheet.RuleQuote},
+		{"text after a quoted cell", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,\"Logs\" of 2019\n", "row 3, column reason", answersheet.RuleQuote},
+		{"a quote mark in a name, below a reason in paragraphs", head + "Ada Quell,Q1,0.02,0.06,0.15,,,,,\"Logs.\n\nAudits.\"\n" + "Bruno \"B\" Ferrante,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", answersheet.RuleQuote},
 		// A spreadsheet set to a decimal comma writes semicolons between
 		// columns; the whole header was quoted back as one unknown column.
 		{"semicolons between columns", "expert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", answersheet.RuleCommas},

@@ -94,6 +94,9 @@ func TestImportAnswersRefusals(t *testing.T) {
 		{"broken rule", []string{"--in", writeSheet(t, good+"Jomo,Q1,0.3,0.2,0.6\n")}, "row 3, column q50: values must strictly increase"},
 		{"wrong column", []string{"--in", writeSheet(t, "expert,question,q05,q50,q95,lowest\nInes,Q2,0.1,0.3,0.6,0.2\n")}, `row 1, column "lowest"`},
 		{"a value beyond the header", []string{"--in", writeSheet(t, good+"Jomo,Q1,0.1,0.3,0.6,from the logs\n")}, "row 3, column 6: is beyond the columns the header names"},
+		// A quote mark inside a cell crashed the command (a panic in the
+		// CSV reader's FieldPos).
+		{"a quote mark inside a cell", []string{"--in", writeSheet(t, good+"Jomo \"J\" K,Q1,0.1,0.3,0.6\n")}, `row 3, column expert: a quote mark (")`},
 		{"no sheet", []string{}, "--in"},
 		{"bad channel", []string{"--in", writeSheet(t, good), "--channel", "carrier-pigeon"}, "--channel"},
 		// The command read any file whole (a 200 MB one took 1.9 GB and

@@ -8,6 +8,8 @@ import (
 	"io"
 	"strconv"
 	"strings"
+	"unicode"
+	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -51,6 +53,9 @@ const (
 	RuleTwoExperts elicit.Rule = "names more than one active expert: name each by id:N"
 	// RuleRound is the rule that a sheet is saved into an open round.
 	RuleRound elicit.Rule = "the workshop's round is closed, so no answer can be saved"
+	// RuleQuote is CSV's rule of quote marks, which a spreadsheet keeps
+	// and a sheet typed or pasted by hand may break (12" pipes).
+	RuleQuote elicit.Rule = `a quote mark (") inside a cell must be doubled (""), with the whole cell in quote marks`
 )
 
 // maxRows bounds a sheet: a panel of 200 experts answering 50
@@ -92,7 +97,8 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	}
 	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
 	// would make a quoted first header cell a bare quote.
-	cr := csv.NewReader(bytes.NewReader(bytes.TrimPrefix(b, []byte("\ufeff"))))
+	body := bytes.TrimPrefix(b, []byte("\ufeff"))
+	cr := csv.NewReader(bytes.NewReader(body))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
 	header, err := cr.Read()
@@ -100,7 +106,7 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleEmpty}
 	}
 	if err != nil {
-		return nil, rowErr(1, "?", RuleHeader, "%v", err)
+		return nil, notCSV(body, err, 0, nil)
 	}
 	known := map[string]bool{"expert": true, "question": true, "reason": true}
 	for _, q := range questions {
@@ -150,14 +156,10 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		if errors.Is(err, io.EOF) {
 			break
 		}
-		start, _ := cr.FieldPos(0)
 		if err != nil {
-			var pe *csv.ParseError
-			if errors.As(err, &pe) {
-				start = pe.StartLine
-			}
-			return nil, rowErr(start-breaks, "?", RuleHeader, "not CSV: %v", err)
+			return nil, notCSV(body, err, breaks, header)
 		}
+		start, _ := cr.FieldPos(0)
 		line := start - breaks
 		countBreaks(rec)
 		// A row of empty cells (a spreadsheet writes one for every row
@@ -374,4 +376,58 @@ func sheetID(s string) (int64, bool) {
 	}
 	id, err := input.Whole("id", rest, 1, input.MaxID)
 	return int64(id), err == nil
+}
+
+// notCSV names the row and column of a CSV parse error (a quote mark
+// inside a cell not written as CSV writes it): its row as a spreadsheet
+// numbers it (breaks, the line breaks inside quoted cells above it) and
+// its column by the header's name, counting the commas between the
+// row's start and the error outside quoted cells.
+func notCSV(body []byte, err error, breaks int, header []string) error {
+	var pe *csv.ParseError
+	if !errors.As(err, &pe) {
+		return &elicit.InputError{Field: "sheet", Rule: RuleHeader, Detail: err.Error()}
+	}
+	// The offsets of the row's first line and of the error's line; the
+	// reader counts lines by \n (a \r\n is one).
+	lineStart := func(n int) int {
+		off := 0
+		for i := 1; i < n && off <= len(body); i++ {
+			j := bytes.IndexByte(body[off:], '\n')
+			if j < 0 {
+				return len(body)
+			}
+			off += j + 1
+		}
+		return min(off, len(body))
+	}
+	from, to := lineStart(pe.StartLine), lineStart(pe.Line)+max(0, pe.Column-1)
+	to = max(from, min(to, len(body)))
+	field, cellStart, quoted := 0, from, false
+	for i := from; i < to; i++ {
+		switch body[i] {
+		case '"':
+			quoted = !quoted
+		case ',':
+			if !quoted {
+				field, cellStart = field+1, i+1
+			}
+		}
+	}
+	column := strconv.Itoa(field + 1)
+	if field < len(header) && strings.TrimSpace(header[field]) != "" {
+		column = strings.ToLower(strings.TrimSpace(header[field]))
+	}
+	// The cell as far as the next comma or line end, as the
+	// facilitator typed it (strconv.Quote would write its quote marks
+	// as \").
+	cell := body[cellStart:]
+	if i := bytes.IndexAny(cell, ",\r\n"); i >= 0 {
+		cell = cell[:i]
+	}
+	shown := "“" + input.Clip(string(cell), 40) + "”"
+	if strings.ContainsFunc(string(cell), func(r rune) bool { return r == utf8.RuneError || unicode.IsControl(r) }) {
+		shown = shownCell(string(cell))
+	}
+	return rowErr(pe.StartLine-breaks, column, RuleQuote, "the cell %s", shown)
 }
