@@ -153,6 +153,11 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if a := rows[0].Answer; !a.Percent || a.Values[1] != 0.06 || rows[0].Reason != "Logs, 2019–2024 (invented)" {
 		t.Errorf("first row read as %+v, reason %q", a, rows[0].Reason)
 	}
+	// A comment above the header may hold a semicolon: the header is
+	// what tells a sheet's separator.
+	if rows, err := answersheet.Read(strings.NewReader("# From Ada; by phone (invented)\nexpert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Line != 3 {
+		t.Errorf("a comment with a semicolon above the header: %+v %v", rows, err)
+	}
 	// Only empty rows: no rows.
 	var ie *elicit.InputError
 	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
@@ -246,6 +251,10 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// A spreadsheet set to a decimal comma writes semicolons between
 		// columns; the whole header was quoted back as one unknown column.
 		{"semicolons between columns", "expert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", answersheet.RuleCommas},
+		// As a spreadsheet writes it with every text cell in quote marks,
+		// which CSV's rule of quote marks refused first.
+		{"semicolons between quoted columns", "\ufeff\"expert\";\"question\";\"q05\";\"q50\";\"q95\"\r\n\"Ada Quell\";\"Q1\";\"0,02\";\"0,06\";\"0,15\"\r\n", "sheet", answersheet.RuleCommas},
+		{"semicolons below a comment", "# Sent by Ada; invented\n\nexpert;question;q05;q50;q95\nAda Quell;Q1;0,02;0,06;0,15\n", "sheet", answersheet.RuleCommas},
 		{"tabs between columns", "expert\tquestion\tq05\tq50\tq95\nAda Quell\tQ1\t0.02\t0.06\t0.15\n", "sheet", answersheet.RuleCommas},
 		{"a revealed calibration question", head + good + "Bruno Ferrante,Q5,0.1,0.2,0.3,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
 	} {

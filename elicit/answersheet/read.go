@@ -101,6 +101,26 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
+	// A spreadsheet set to a decimal comma saves CSV with semicolons (or
+	// tabs) between the columns: its header line has none of the commas
+	// a sheet's header needs. Looked for before the CSV is read, as the
+	// cells of such a header in quote marks ("expert";"question") are no
+	// CSV at all and were refused by CSV's rule of quote marks.
+	// The header is the first line that is neither empty nor a comment.
+	var first []byte
+	for rest := body; len(rest) > 0 && len(first) == 0; {
+		first, rest, _ = bytes.Cut(rest, []byte("\n"))
+		if first = bytes.TrimRight(first, "\r"); bytes.HasPrefix(first, []byte("#")) {
+			first = nil
+		}
+	}
+	if !bytes.ContainsRune(first, ',') {
+		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
+			if bytes.Contains(first, []byte(sep.char)) {
+				return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep.name}
+			}
+		}
+	}
 	header, err := cr.Read()
 	if errors.Is(err, io.EOF) {
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleEmpty}
@@ -112,15 +132,6 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	for _, q := range questions {
 		for _, c := range Columns(q) {
 			known[c] = true
-		}
-	}
-	if len(header) == 1 {
-		// A spreadsheet set to a decimal comma saves CSV with semicolons
-		// (or tabs) between the columns: the whole header is one cell.
-		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
-			if strings.Contains(header[0], sep.char) {
-				return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep.name}
-			}
 		}
 	}
 	col := map[string]int{}
