@@ -153,6 +153,18 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if a := rows[0].Answer; !a.Percent || a.Values[1] != 0.06 || rows[0].Reason != "Logs, 2019–2024 (invented)" {
 		t.Errorf("first row read as %+v, reason %q", a, rows[0].Reason)
 	}
+	// Empty header cells, as a spreadsheet writes them to the right of
+	// its last column when a cell there was ever touched (and an empty
+	// column between two), name no column: the header was refused as
+	// naming a column "".
+	for _, sheet := range []string{
+		"\ufeffexpert,question,q05,q50,q95,reason,,,\r\nAda Quell,Q1,0.02,0.06,0.15,,,,\r\n,,,,,,,,\r\n",
+		"expert,question,,q05,q50,q95\nAda Quell,Q1,,0.02,0.06,0.15\n",
+	} {
+		if rows, err := answersheet.Read(strings.NewReader(sheet), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Answer.Values[2] != 0.15 {
+			t.Errorf("%q: %+v %v", sheet, rows, err)
+		}
+	}
 	// A comment above the header may hold a semicolon: the header is
 	// what tells a sheet's separator.
 	if rows, err := answersheet.Read(strings.NewReader("# From Ada; by phone (invented)\nexpert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Line != 3 {
@@ -240,6 +252,9 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// A cell beyond the header's columns was dropped in silence: a
 		// reason without its column, or a value split by a decimal comma.
 		{"a value beyond the header", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,,Tanks are old\n", "row 3, column 11", answersheet.RuleExtra},
+		// A value under an empty header cell is refused, never dropped.
+		{"a value under an unnamed column", "expert,question,,q05,q50,q95\nAda Quell,Q1,from the logs,0.02,0.06,0.15\n", "row 2, column 3", answersheet.RuleUnnamed},
+		{"a value beyond the named columns", "expert,question,q05,q50,q95,,\nAda Quell,Q1,0.02,0.06,0.15,,from the logs\n", "row 2, column 7", answersheet.RuleExtra},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, answersheet.RuleHeader},
 		// A quote mark inside a cell of a sheet typed by hand (12" for
 		// inches) is not CSV: the read of such a row panicked (the

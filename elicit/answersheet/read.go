@@ -49,6 +49,7 @@ const (
 	RuleEmpty      elicit.Rule = "the sheet has no rows"
 	RuleChanged    elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
 	RuleExtra      elicit.Rule = "is beyond the columns the header names"
+	RuleUnnamed    elicit.Rule = "is under a column the header leaves without a name"
 	RuleCommas     elicit.Rule = "must separate its columns with commas: save it as CSV (comma-separated), with a point for decimals"
 	RuleTwoExperts elicit.Rule = "names more than one active expert: name each by id:N"
 	// RuleRound is the rule that a sheet is saved into an open round.
@@ -135,8 +136,17 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		}
 	}
 	col := map[string]int{}
+	// A column without a name is no column: a spreadsheet writes empty
+	// header cells to the right of the last it holds (",,," after
+	// "reason") when a cell there was ever touched. A value under one is
+	// refused below, never dropped in silence.
+	named := 0 // the columns up to the last the header names
 	for i, h := range header {
 		h = strings.ToLower(strings.TrimSpace(h))
+		if h == "" {
+			continue
+		}
+		named = i + 1
 		if !known[h] {
 			return nil, rowErr(1, shownCell(h), RuleHeader, "no question of this workshop has a column %s", shownCell(h))
 		}
@@ -180,10 +190,13 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 			if strings.TrimSpace(c) == "" {
 				continue
 			}
-			if i >= len(header) {
+			if i >= named {
 				// Never dropped in silence: a reason without a
 				// column, or a decimal comma that split a value.
-				return nil, rowErr(line, strconv.Itoa(i+1), RuleExtra, "the header names %d columns; this row has %s in column %d", len(header), shownCell(c), i+1)
+				return nil, rowErr(line, strconv.Itoa(i+1), RuleExtra, "the header names %d columns; this row has %s in column %d", named, shownCell(c), i+1)
+			}
+			if strings.TrimSpace(header[i]) == "" {
+				return nil, rowErr(line, strconv.Itoa(i+1), RuleUnnamed, "this row has %s in column %d", shownCell(c), i+1)
 			}
 			blank = false
 		}
