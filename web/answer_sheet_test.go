@@ -255,6 +255,11 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// A value under an empty header cell is refused, never dropped.
 		{"a value under an unnamed column", "expert,question,,q05,q50,q95\nAda Quell,Q1,from the logs,0.02,0.06,0.15\n", "row 2, column 3", answersheet.RuleUnnamed},
 		{"a value beyond the named columns", "expert,question,q05,q50,q95,,\nAda Quell,Q1,0.02,0.06,0.15,,from the logs\n", "row 2, column 7", answersheet.RuleExtra},
+		// A spreadsheet's plain CSV in Windows-1252 (é as the byte 0xE9):
+		// the name matched no expert, quoted back as "Br\xe9no".
+		{"a name in Windows-1252", head + good + "Br\xe9no Ferrante,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", answersheet.RuleUTF8},
+		{"a reason in Windows-1252", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,caf\xe9 logs\n", "row 3, column reason", answersheet.RuleUTF8},
+		{"a sheet in UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00\n\x00", "sheet", answersheet.RuleUTF8},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, answersheet.RuleHeader},
 		// A quote mark inside a cell of a sheet typed by hand (12" for
 		// inches) is not CSV: the read of such a row panicked (the

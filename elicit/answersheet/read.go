@@ -50,6 +50,7 @@ const (
 	RuleChanged    elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
 	RuleExtra      elicit.Rule = "is beyond the columns the header names"
 	RuleUnnamed    elicit.Rule = "is under a column the header leaves without a name"
+	RuleUTF8       elicit.Rule = "the sheet must be saved as UTF-8 (in a spreadsheet program: CSV UTF-8)"
 	RuleCommas     elicit.Rule = "must separate its columns with commas: save it as CSV (comma-separated), with a point for decimals"
 	RuleTwoExperts elicit.Rule = "names more than one active expert: name each by id:N"
 	// RuleRound is the rule that a sheet is saved into an open round.
@@ -98,6 +99,11 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	}
 	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
 	// would make a quoted first header cell a bare quote.
+	// A spreadsheet's "Unicode text" is UTF-16, each letter two bytes:
+	// read as UTF-8 its header was quoted back as "\xff\xfee\x00x\x00…".
+	if bytes.HasPrefix(b, []byte{0xff, 0xfe}) || bytes.HasPrefix(b, []byte{0xfe, 0xff}) {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
+	}
 	body := bytes.TrimPrefix(b, []byte("\ufeff"))
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.Comment = '#'
@@ -128,6 +134,9 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	}
 	if err != nil {
 		return nil, notCSV(body, err, 0, nil)
+	}
+	if err := inUTF8(1, header, header); err != nil {
+		return nil, err
 	}
 	known := map[string]bool{"expert": true, "question": true, "reason": true}
 	for _, q := range questions {
@@ -183,6 +192,9 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		start, _ := cr.FieldPos(0)
 		line := start - breaks
 		countBreaks(rec)
+		if err := inUTF8(line, rec, header); err != nil {
+			return nil, err
+		}
 		// A row of empty cells (a spreadsheet writes one for every row
 		// that was ever touched) is no row.
 		blank := true
@@ -454,4 +466,23 @@ func notCSV(body []byte, err error, breaks int, header []string) error {
 		shown = shownCell(string(cell))
 	}
 	return rowErr(pe.StartLine-breaks, column, RuleQuote, "the cell %s", shown)
+}
+
+// inUTF8 refuses a row holding a cell that is not UTF-8, naming its
+// column: a spreadsheet's plain "CSV" is often in the computer's own
+// encoding (Windows-1252 writes é as the one byte 0xE9), and a name
+// written so matched no expert ("Ad\xe0 Quell") and a reason was refused
+// as holding control characters.
+func inUTF8(line int, rec, header []string) error {
+	for i, c := range rec {
+		if utf8.ValidString(c) {
+			continue
+		}
+		column := strconv.Itoa(i + 1)
+		if i < len(header) && line > 1 && strings.TrimSpace(header[i]) != "" && utf8.ValidString(header[i]) {
+			column = strings.ToLower(strings.TrimSpace(header[i]))
+		}
+		return rowErr(line, column, RuleUTF8, "%s is in another encoding, such as Windows-1252", shownCell(c))
+	}
+	return nil
 }
