@@ -165,6 +165,11 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 			t.Errorf("%q: %+v %v", sheet, rows, err)
 		}
 	}
+	// Lines ended by a carriage return alone, as a spreadsheet's "CSV
+	// (Macintosh)" writes them, were read as one row.
+	if rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\r,,,,\rAda Quell,Q1,0.02,0.06,0.15\r\"Bruno Ferrante\",Q1,0.01,0.03,0.08\r"), g.qs, g.experts); err != nil || len(rows) != 2 || rows[1].Line != 4 || rows[1].Answer.Values[2] != 0.08 {
+		t.Errorf("lines ended by a carriage return: %+v %v", rows, err)
+	}
 	// A comment above the header may hold a semicolon: the header is
 	// what tells a sheet's separator.
 	if rows, err := answersheet.Read(strings.NewReader("# From Ada; by phone (invented)\nexpert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Line != 3 {

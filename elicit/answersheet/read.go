@@ -105,6 +105,12 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
 	}
 	body := bytes.TrimPrefix(b, []byte("\ufeff"))
+	// A spreadsheet's "CSV (Macintosh)" ends its lines with a carriage
+	// return alone, which CSV reads as part of a cell: the whole sheet
+	// was one row, its header quoted back as "q95\rada quell".
+	if bytes.IndexByte(body, '\n') < 0 {
+		body = bytes.ReplaceAll(body, []byte("\r"), []byte("\n"))
+	}
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
