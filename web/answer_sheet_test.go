@@ -306,6 +306,35 @@ func TestAnswerSheetRefusals(t *testing.T) {
 			}
 		})
 	}
+	// A row for an expert whose link was revoked, or for a retired
+	// question, says so: "names no active expert" sent the facilitator
+	// looking for a misspelt name.
+	ctx := context.Background()
+	if err := g.h.db.RevokeExpert(ctx, g.experts[1].ID, "invented: left the panel"); err != nil {
+		t.Fatal(err)
+	}
+	if err := g.h.db.SetQuestionRetired(ctx, g.qs[3].ID, true, "invented: asked twice"); err != nil {
+		t.Fatal(err)
+	}
+	qs, _ := g.h.db.Questions(ctx, g.ws.ID)
+	es, _ := g.h.db.Experts(ctx, g.ws.ID)
+	for _, c := range []struct{ sheet, field, detail string }{
+		{head + good + " bruno ferrante ,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", "Bruno Ferrante's link was revoked"},
+		{head + good + "id:" + strconv.FormatInt(g.experts[1].ID, 10) + ",Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", "Bruno Ferrante's link was revoked"},
+		{head + good + "Chiara Osei,Q4,0.02,0.06,0.15,,,,,\n", "row 3, column question", "Q4 is retired"},
+	} {
+		_, err := answersheet.Read(strings.NewReader(c.sheet), qs, es)
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Field != c.field || !strings.Contains(ie.Detail, c.detail) {
+			t.Errorf("%q: got %v, want %s: … %s", c.sheet, err, c.field, c.detail)
+		}
+		if r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {c.sheet}, "channel": {"file"}}); r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, html.EscapeString(c.detail)) {
+			t.Errorf("upload: %d, want 422 saying %s", r.StatusCode, c.detail)
+		}
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("%d revisions written by a refused sheet", n)
+	}
 	// A closed round refuses the sheet at its first row.
 	if err := g.h.db.SetRound(context.Background(), g.ws.ID, 1, false, ""); err != nil {
 		t.Fatal(err)

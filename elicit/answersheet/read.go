@@ -258,10 +258,20 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		if n > 1 {
 			rule = RuleTwoExperts
 		}
-		return row, rowErr(line, "expert", rule, "%s", shownCell(cell("expert")))
+		detail := shownCell(cell("expert"))
+		if e, revoked := revokedExpert(cell("expert"), experts); n == 0 && revoked {
+			// Said as such: "names no active expert" left the
+			// facilitator looking for a misspelt name.
+			detail = e.Name + "'s link was revoked, so no answer of theirs can be saved"
+		}
+		return row, rowErr(line, "expert", rule, "%s", detail)
 	}
 	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
-		return row, rowErr(line, "question", RuleQuestion, "%s", shownCell(cell("question")))
+		detail := shownCell(cell("question"))
+		if q, retired := retiredQuestion(cell("question"), questions); retired {
+			detail = fmt.Sprintf("Q%d is retired", q.Position)
+		}
+		return row, rowErr(line, "question", RuleQuestion, "%s", detail)
 	}
 	q := row.Question
 	if q.Frozen() {
@@ -391,6 +401,33 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 		}
 	}
 	return found, n
+}
+
+// revokedExpert finds the expert a row names who is on the panel no
+// more: by id:N, or the one revoked expert of the name when no active
+// expert has it.
+func revokedExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) {
+	var found workshop.Expert
+	n := 0
+	id, byID := sheetID(s)
+	for _, e := range experts {
+		if e.Revoked && ((byID && e.ID == id) || (!byID && workshop.SameName(e.Name, s))) {
+			found, n = e, n+1
+		}
+	}
+	return found, n == 1
+}
+
+// retiredQuestion finds the retired question a row names.
+func retiredQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
+	for _, q := range questions {
+		if q.Retired {
+			if got, ok := findQuestion(s, []workshop.Question{{ID: q.ID, Position: q.Position}}); ok && got.ID == q.ID {
+				return q, true
+			}
+		}
+	}
+	return workshop.Question{}, false
 }
 
 // findQuestion finds a question that takes answers by its number (3 or
