@@ -681,6 +681,37 @@ func TestSheetRefusalIsSaidFirst(t *testing.T) {
 	if n := strings.Count(body, "row 2, column expert"); n != 1 {
 		t.Errorf("the refusal is said %d times", n)
 	}
+	// So is a refusal of the sheet as a whole, pasted or sent as a file:
+	// it was set beside the paste box, empty when the sheet came as a
+	// file, below the columns' help and under "Correct the marked
+	// fields".
+	for _, c := range []struct{ name, sheet, said string }{
+		{"semicolons", "expert;question;q05;q50;q95\nAda Quell;Q1;0,01;0,04;0,1\n", "The sheet must separate its columns with commas"},
+		{"UTF-16", "\xff\xfee\x00x\x00p\x00", "The sheet must be saved as UTF-8"},
+		{"no rows", "expert,question,q05,q50,q95\n,,,,\n", "The sheet has no rows."},
+	} {
+		for _, asFile := range []bool{false, true} {
+			var buf bytes.Buffer
+			mw := multipart.NewWriter(&buf)
+			fw, _ := mw.CreateFormFile("file", "answers.csv")
+			sheet := c.sheet
+			if asFile {
+				fw.Write([]byte(c.sheet))
+				sheet = ""
+			}
+			mw.WriteField("sheet", sheet)
+			mw.WriteField("channel", "file")
+			mw.Close()
+			req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
+			req.Header.Set("Content-Type", mw.FormDataContentType())
+			req.Header.Set("Origin", g.h.ts.URL)
+			r, body := g.h.do(req)
+			said, help := strings.Index(body, html.EscapeString(c.said)), strings.Index(body, "This workshop's columns")
+			if r.StatusCode != http.StatusUnprocessableEntity || said < 0 || help < 0 || said > help || strings.Contains(body, "Correct the marked fields") {
+				t.Errorf("%s (as a file: %v): %d, the refusal at %d, the columns' help at %d: want 422 and the refusal first, no marked field", c.name, asFile, r.StatusCode, said, help)
+			}
+		}
+	}
 }
 
 // A row typed in percentages has its warnings' values in percentages, as

@@ -9,6 +9,7 @@ import (
 
 	"github.com/a-h/templ"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -238,7 +239,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 				s.fail(w, r, err)
 				return
 			}
-			f.Fail(err, nil)
+			failSheet(f, err)
 		}
 	}
 	if !f.OK() {
@@ -266,6 +267,23 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 	}
 	v.Rows, v.Key = rows, key
 	s.renderSheet(w, r, http.StatusOK, v)
+}
+
+// failSheet says a refusal of the sheet's content at the top of the
+// page, as a refusal naming a row and column is said: one naming the
+// sheet as a whole (its separators, its encoding, no rows) was set beside
+// the paste box, which is empty when the sheet came as a file, far below
+// the columns' help, under "Correct the marked fields".
+func failSheet(f *Form, err error) {
+	var ie *elicit.InputError
+	if errors.As(err, &ie) && ie.Field == "sheet" {
+		// "The sheet must separate its columns with commas…", "The
+		// sheet has no rows".
+		msg := strings.TrimPrefix(string(ie.Rule), "the sheet ")
+		f.set("", "The sheet "+msg+detailSuffix(ie.Detail)+".")
+		return
+	}
+	f.Fail(err, nil)
 }
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
