@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"encoding/json"
 	"errors"
 	"fmt"
@@ -26,7 +27,22 @@ type liveEvent struct {
 	Kind     string    `json:"kind"`               // "save", "round", "truth", "weights", "prior", ...
 	Question int64     `json:"question,omitempty"` // the question it concerns, if one
 	At       time.Time `json:"at"`
+	// Version is the workshop's live version after this change
+	// (liveHub.version).
+	Version string `json:"version,omitempty"`
 }
+
+// A live page can miss a change made between the moment the server read
+// it and the moment its stream opens (the page's script loading, a room
+// view moved to the next question by a key, a tab joining the browser's
+// shared stream): the change was published to nobody, and the projector
+// showed "3 of 4 experts have answered" until some later change. So the
+// hub counts each workshop's changes, a live page carries the count as it
+// was before the page was read (data-live-version, liveVersionOf), and a
+// stream says the count as it opens (the event "hello"): a page whose
+// count differs fetches itself again. The count starts afresh with the
+// server, under a mark of its own start, so a page read before a restart
+// never matches a count after it.
 
 // maxStreams bounds the open event streams of the whole server. A stream
 // costs a goroutine and a connection, never a request turn (turns.go
@@ -47,21 +63,40 @@ type liveHub struct {
 	n      int
 	done   chan struct{}
 	closed bool
+	// changes counts each workshop's published changes; start marks
+	// this hub's start (see liveEvent).
+	changes map[int64]uint64
+	start   string
 }
 
 func newLiveHub() *liveHub {
-	return &liveHub{subs: map[int64]map[chan liveEvent]struct{}{}, done: make(chan struct{})}
+	return &liveHub{subs: map[int64]map[chan liveEvent]struct{}{}, done: make(chan struct{}),
+		changes: map[int64]uint64{}, start: strconv.FormatInt(time.Now().UnixNano(), 36)}
+}
+
+// version is workshop's live version: the changes published to it since
+// the hub started, under the hub's start mark.
+func (h *liveHub) version(workshop int64) string {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	return h.versionLocked(workshop)
+}
+
+func (h *liveHub) versionLocked(workshop int64) string {
+	return h.start + "-" + strconv.FormatUint(h.changes[workshop], 10)
 }
 
 // subscribe opens a stream of workshop's changes; cancel closes it.
-func (h *liveHub) subscribe(workshop int64) (ch chan liveEvent, cancel func(), err error) {
+// version is the workshop's live version as the stream opens: every
+// change after it reaches ch.
+func (h *liveHub) subscribe(workshop int64) (ch chan liveEvent, version string, cancel func(), err error) {
 	h.mu.Lock()
 	defer h.mu.Unlock()
 	if h.closed {
-		return nil, nil, http.ErrServerClosed
+		return nil, "", nil, http.ErrServerClosed
 	}
 	if h.n >= maxStreams {
-		return nil, nil, errTooManyStreams
+		return nil, "", nil, errTooManyStreams
 	}
 	ch = make(chan liveEvent, 1)
 	if h.subs[workshop] == nil {
@@ -69,7 +104,7 @@ func (h *liveHub) subscribe(workshop int64) (ch chan liveEvent, cancel func(), e
 	}
 	h.subs[workshop][ch] = struct{}{}
 	h.n++
-	return ch, func() {
+	return ch, h.versionLocked(workshop), func() {
 		h.mu.Lock()
 		defer h.mu.Unlock()
 		if _, ok := h.subs[workshop][ch]; ok {
@@ -87,6 +122,8 @@ func (h *liveHub) publish(workshop int64, kind string) {
 func (h *liveHub) publishEvent(workshop int64, ev liveEvent) {
 	h.mu.Lock()
 	defer h.mu.Unlock()
+	h.changes[workshop]++
+	ev.Version = h.versionLocked(workshop)
 	for ch := range h.subs[workshop] {
 		select {
 		case ch <- ev:
@@ -128,7 +165,7 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	if !ok {
 		return
 	}
-	ch, cancel, err := s.live.subscribe(ws.ID)
+	ch, version, cancel, err := s.live.subscribe(ws.ID)
 	if err != nil {
 		w.Header().Set("Retry-After", "10")
 		http.Error(w, "Parley has too many live pages open; this page will try again shortly.", http.StatusServiceUnavailable)
@@ -142,7 +179,10 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	h.Set("Content-Type", "text/event-stream; charset=utf-8")
 	h.Set("X-Accel-Buffering", "no")
 	w.WriteHeader(http.StatusOK)
-	if _, err := fmt.Fprint(w, "retry: 2000\n: Parley live changes of workshop "+strconv.FormatInt(ws.ID, 10)+"\n\n"); err != nil {
+	hello, _ := json.Marshal(struct {
+		Version string `json:"version"`
+	}{version})
+	if _, err := fmt.Fprintf(w, "retry: 2000\n: Parley live changes of workshop %d\n\nevent: hello\ndata: %s\n\n", ws.ID, hello); err != nil {
 		return
 	}
 	if rc.Flush() != nil {
@@ -220,12 +260,29 @@ func (sr *statusRecorder) Write(b []byte) (int, error) {
 
 func (sr *statusRecorder) Unwrap() http.ResponseWriter { return sr.ResponseWriter }
 
+// liveVersionKey keys the workshop's live version in a page request's
+// context, read before the page reads anything else.
+type liveVersionKey struct{}
+
+// liveVersionOf is the live version of the workshop a page shows, as it
+// was before the page was read (data-live-version); "" outside a
+// workshop's pages.
+func liveVersionOf(ctx context.Context) string {
+	v, _ := ctx.Value(liveVersionKey{}).(string)
+	return v
+}
+
 // publishChanges publishes every facilitator change to a workshop that
 // succeeded: a POST under /w/{workshop} answered below 400. The kind is
-// the last part of its path ("round", "weights", "agree", ...).
+// the last part of its path ("round", "weights", "agree", ...). Any other
+// request under /w/{workshop} notes the workshop's live version first,
+// for a live page to carry (liveVersionOf).
 func (s *Server) publishChanges(next http.Handler) http.Handler {
 	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
 		if r.Method != http.MethodPost {
+			if id, err := strconv.ParseInt(chi.URLParam(r, "workshop"), 10, 64); err == nil {
+				r = r.WithContext(context.WithValue(r.Context(), liveVersionKey{}, s.live.version(id)))
+			}
 			next.ServeHTTP(w, r)
 			return
 		}

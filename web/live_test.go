@@ -7,6 +7,7 @@ import (
 	"errors"
 	"net/http"
 	"net/url"
+	"regexp"
 	"runtime"
 	"strconv"
 	"strings"
@@ -18,6 +19,7 @@ import (
 type stream struct {
 	res    *http.Response
 	events chan liveEvent
+	hello  chan string // the version the stream opened at
 }
 
 // openStream opens GET path as the harness's client (with its cookies).
@@ -35,7 +37,7 @@ func (h *harness) openStream(t *testing.T, path string) (*http.Response, *stream
 	if res.StatusCode != http.StatusOK {
 		return res, nil
 	}
-	st := &stream{res: res, events: make(chan liveEvent, 64)}
+	st := &stream{res: res, events: make(chan liveEvent, 64), hello: make(chan string, 1)}
 	go func() {
 		defer close(st.events)
 		sc := bufio.NewScanner(res.Body)
@@ -45,6 +47,11 @@ func (h *harness) openStream(t *testing.T, path string) (*http.Response, *stream
 			switch {
 			case strings.HasPrefix(line, "event: "):
 				kind = strings.TrimPrefix(line, "event: ")
+			case strings.HasPrefix(line, "data: ") && kind == "hello":
+				var hello struct{ Version string }
+				if json.Unmarshal([]byte(strings.TrimPrefix(line, "data: ")), &hello) == nil {
+					st.hello <- hello.Version
+				}
 			case strings.HasPrefix(line, "data: ") && kind == "change":
 				var ev liveEvent
 				if json.Unmarshal([]byte(strings.TrimPrefix(line, "data: ")), &ev) == nil {
@@ -176,11 +183,11 @@ func TestManyStreamsDoNotHoldExperts(t *testing.T) {
 	// Beyond the bound: 503 with Retry-After.
 	hub := newLiveHub()
 	for i := 0; i < maxStreams; i++ {
-		if _, _, err := hub.subscribe(1); err != nil {
+		if _, _, _, err := hub.subscribe(1); err != nil {
 			t.Fatal(err)
 		}
 	}
-	if _, _, err := hub.subscribe(1); !errors.Is(err, errTooManyStreams) {
+	if _, _, _, err := hub.subscribe(1); !errors.Is(err, errTooManyStreams) {
 		t.Fatalf("stream %d: %v, want errTooManyStreams", maxStreams+1, err)
 	}
 }
@@ -236,5 +243,74 @@ func TestEventStreamEndsWithItsSession(t *testing.T) {
 	}
 	if n := h.srv.live.streams(); n != 0 {
 		t.Errorf("%d streams still counted", n)
+	}
+}
+
+// liveVersionAttr reads the data-live-version a live page carries.
+var liveVersionAttr = regexp.MustCompile(`data-live-src="[^"]*" data-live-version="([^"]+)"`)
+
+// A live page carries the workshop's count of changes as it was read, and
+// a stream says the count as it opens, so that a page read before a
+// change it was not yet listening for can tell it missed one
+// (TestLivePageCatchesAChangeBeforeItsStreamOpened in e2e is the
+// browser's half). Every kind of live page carries it: the overview, a
+// question's panel, its room view.
+func TestLivePagesCarryTheVersionTheirStreamOpensAt(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	q := workshopPath(ws.ID) + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	pages := []string{workshopPath(ws.ID), q, q + "/room"}
+	versionsOf := func() []string {
+		var out []string
+		for _, p := range pages {
+			res, body := h.get(p)
+			m := liveVersionAttr.FindStringSubmatch(body)
+			if res.StatusCode != http.StatusOK || m == nil {
+				t.Fatalf("%s: %d, no data-live-version", p, res.StatusCode)
+			}
+			out = append(out, m[1])
+		}
+		return out
+	}
+	hello := func() string {
+		_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+		select {
+		case v := <-st.hello:
+			return v
+		case <-time.After(2 * time.Second):
+			t.Fatal("the stream said no version as it opened")
+		}
+		return ""
+	}
+	before := versionsOf()
+	opened := hello()
+	for i, v := range before {
+		if v != opened {
+			t.Errorf("%s carries version %q; a stream opened after it with nothing changed says %q", pages[i], v, opened)
+		}
+	}
+	// Priya saves while no stream is open: a page read before says the
+	// old count, a stream opened after says the new.
+	if r, body := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	now := hello()
+	if now == opened {
+		t.Fatalf("a stream opened after a save says the version %q it said before it", now)
+	}
+	for i, v := range versionsOf() {
+		if v != now {
+			t.Errorf("%s read after the save carries %q; the stream says %q", pages[i], v, now)
+		}
+	}
+	// The change itself carries the version after it.
+	_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	<-st.hello
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close round: %d", r.StatusCode)
+	}
+	ev := st.next(t, 2*time.Second, "closing the round")
+	if ev.Version == "" || ev.Version == now || ev.Version != versionsOf()[2] {
+		t.Errorf("the round's change carries version %q (before it %q; the room view now %q)", ev.Version, now, versionsOf()[2])
 	}
 }

@@ -2,9 +2,13 @@
 // shows it (live.js starts it, named by the stream's address). Each tab
 // is told of every change, and of the stream's state; after the stream
 // was away, of a change too, since what happened meanwhile was not sent.
+// Each tab is told the workshop's count of changes ("version V") as the
+// stream opens and as it joins, so that a tab whose page was read before
+// a change it was not yet listening for fetches itself again.
 "use strict";
 var ports = [];
 var current = null;
+var version = null;
 var stream = null;
 var dropped = false;
 
@@ -13,13 +17,37 @@ function send(msg) {
   ports.forEach(function (p) { p.postMessage(msg); });
 }
 
+function versionIn(data) {
+  try {
+    return JSON.parse(data).version || null;
+  } catch (e) {
+    return null;
+  }
+}
+
+// tell gives a tab that joins (or comes back) the stream's state and
+// the count of changes it has heard of.
+function tell(port) {
+  if (current) { port.postMessage(current); }
+  if (version) { port.postMessage("version " + version); }
+}
+
 function start() {
   if (typeof EventSource === "undefined") {
     send("unsupported");
     return;
   }
   stream = new EventSource(self.name);
-  stream.addEventListener("change", function () { send("change"); });
+  stream.addEventListener("change", function (e) {
+    version = versionIn(e.data) || version;
+    send("change");
+  });
+  stream.addEventListener("hello", function (e) {
+    version = versionIn(e.data);
+    if (version) {
+      ports.forEach(function (p) { p.postMessage("version " + version); });
+    }
+  });
   stream.addEventListener("open", function () {
     send("connected");
     if (dropped) {
@@ -42,7 +70,7 @@ self.onconnect = function (e) {
       ports.splice(i, 1);
     } else if (m.data === "hello" && i < 0) {
       ports.push(port);
-      if (current) { port.postMessage(current); }
+      tell(port);
     }
   };
   port.start();
@@ -54,7 +82,7 @@ self.onconnect = function (e) {
     // A stream refused for good (the facilitator signed out) is tried
     // again for a page opened since.
     start();
-  } else if (current) {
-    port.postMessage(current);
+  } else {
+    tell(port);
   }
 };

@@ -13,6 +13,7 @@
     return;
   }
   var url = src.getAttribute("data-live-src");
+  var seen = src.getAttribute("data-live-version") || "";
   var timer = null;
   var busy = false;
   var again = false;
@@ -37,6 +38,8 @@
       })
       .then(function (html) {
         var doc = new DOMParser().parseFromString(html, "text/html");
+        var marked = doc.querySelector("[data-live-src]");
+        if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
           var fresh = el.id && doc.getElementById(el.id);
           if (fresh && !busyTyping(el)) {
@@ -68,6 +71,13 @@
     document.documentElement.setAttribute("data-live", s);
   }
 
+  // heard is the workshop's count of changes as a stream tells it.
+  function heard(version) {
+    if (version && version !== seen) {
+      schedule();
+    }
+  }
+
   // One stream per browser, not per tab: over plain HTTP a browser keeps
   // at most six connections to a server, and every open stream holds
   // one, so six live tabs (the overview, the projector's room view, a
@@ -79,6 +89,9 @@
     var stream = new EventSource(url);
     var dropped = false;
     stream.addEventListener("change", schedule);
+    stream.addEventListener("hello", function (e) {
+      try { heard(JSON.parse(e.data).version); } catch (err) { schedule(); }
+    });
     stream.addEventListener("open", function () {
       state("connected");
       if (dropped) {
@@ -104,6 +117,10 @@
     return;
   }
   worker.port.onmessage = function (m) {
+    if (typeof m.data === "string" && m.data.indexOf("version ") === 0) {
+      heard(m.data.slice("version ".length));
+      return;
+    }
     switch (m.data) {
       case "change":
         schedule();

@@ -1,0 +1,128 @@
+package e2e
+
+import (
+	"context"
+	"errors"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/fetch"
+	"github.com/chromedp/cdproto/network"
+	"github.com/chromedp/cdproto/page"
+	"github.com/chromedp/chromedp"
+)
+
+// TestLivePageCatchesAChangeBeforeItsStreamOpened: a change saved after
+// the server read a live page but before the page's stream opened (its
+// script still loading, the room view just moved to the next question by
+// a key, a tab joining the browser's shared stream) was published to
+// nobody, and the page showed the panel without it until some later
+// change: the projector said "3 of 4 experts have answered" after the
+// fourth had. The page's script is held back here while an expert saves.
+func TestLivePageCatchesAChangeBeforeItsStreamOpened(t *testing.T) {
+	site, d := startDemo(t)
+	q1 := strconv.FormatInt(d.qs[0].ID, 10)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 768, false)
+
+	// The projector's only tab: its stream is the browser's first.
+	fac.openHoldingLiveScript(d.url+"/q/"+q1+"/room", func() {
+		priyaSaves(t, site, d, "0.02", "0.05", "0.12")
+	})
+	if err := fac.poll(liveWithin+3*time.Second, `document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.")`); err != nil {
+		t.Fatalf("the room view did not show the save made before its stream opened: %v; it shows:\n%s", err, clip(fac.text(), 1500))
+	}
+
+	// A second tab joins the stream the projector's tab holds.
+	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	overview := fac.tab("overview")
+	overview.viewport(1366, 900, false)
+	overview.openHoldingLiveScript(d.url+"/", func() {
+		priyaSaves(t, site, d, "0.02", "0.06", "0.13")
+	})
+	cell := `(() => { const row = Array.from(document.querySelectorAll("#answered tbody tr")).find(r => r.innerText.startsWith("Priya Raman")); return row ? row.cells[1].innerText : "<no row>"; })()`
+	if err := overview.poll(liveWithin+3*time.Second, cell+` === "answered (2 saves)"`); err != nil {
+		t.Fatalf("the overview did not show the save made before it joined the stream: %v (Priya's cell reads %q)", err, eval[string](overview, "cell", cell))
+	}
+}
+
+// priyaSaves posts Priya's answer to the demo's question 1, as her page
+// would.
+func priyaSaves(t *testing.T, site *site, d demo, values ...string) {
+	t.Helper()
+	form := url.Values{"reason": {"Line audits (invented)."}}
+	for i, v := range values {
+		form.Set("values["+strconv.Itoa(i)+"]", v)
+	}
+	req, _ := http.NewRequest(http.MethodPost, site.URL+linkOf(t, d.links, "Priya Raman")+"q/"+strconv.FormatInt(d.qs[0].ID, 10)+"/save",
+		strings.NewReader(form.Encode()))
+	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+	req.Header.Set("Origin", site.URL)
+	res, err := http.DefaultClient.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	res.Body.Close()
+	if res.StatusCode >= 400 {
+		t.Fatalf("Priya's save: status %d", res.StatusCode)
+	}
+}
+
+// openHoldingLiveScript opens address with /static/live.js held back
+// until meanwhile has run: the page is read by the server, and its
+// stream opens only after meanwhile.
+func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
+	p.t.Helper()
+	paused := make(chan fetch.RequestID, 1)
+	ctx, cancel := context.WithCancel(p.ctx)
+	defer cancel()
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*fetch.EventRequestPaused); ok {
+			select {
+			case paused <- e.RequestID:
+			default:
+			}
+		}
+	}); err != nil {
+		p.t.Fatal(err)
+	}
+	p.do("hold back live.js", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		if _, err := cdp.Call(ctx, t, network.Enable, network.EnableParams{}); err != nil {
+			return err
+		}
+		if _, err := cdp.Call(ctx, t, network.SetCacheDisabled, network.SetCacheDisabledParams{CacheDisabled: true}); err != nil {
+			return err
+		}
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/static/live.js", RequestStage: fetch.RequestStageRequest}}})
+		return err
+	}))
+	p.do("start loading "+address, chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		res, err := cdp.Call(ctx, t, page.Navigate, page.NavigateParams{URL: address})
+		if err == nil && res.ErrorText != "" {
+			return errors.New(res.ErrorText)
+		}
+		return err
+	}))
+	var id fetch.RequestID
+	select {
+	case id = <-paused:
+	case <-time.After(stepTimeout):
+		p.t.Fatalf("%s: live.js was never requested", p.name)
+	}
+	meanwhile()
+	p.do("let live.js load", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		if _, err := cdp.Call(ctx, t, fetch.ContinueRequest, fetch.ContinueRequestParams{RequestID: id}); err != nil {
+			return err
+		}
+		_, err := cdp.Call(ctx, t, fetch.Disable, cdp.Empty{})
+		return err
+	}))
+	p.waitFor("the page to load", `document.readyState === "complete"`)
+}
