@@ -181,7 +181,9 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		}
 	}
 	if q.Retired {
-		v.Note = "This question has been retired: experts no longer see it."
+		// No expert can answer it, so the open round's count of answers
+		// says nothing of it.
+		v.Note, v.Progress = "This question has been retired: experts no longer see it.", ""
 		return nil
 	}
 	if q.PanelHeld() {
@@ -243,7 +245,9 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 
 // shownWords, fingerprintLead and fingerprintNote are sentences of the
 // room's header (room.templ), which the reasons display also counts the
-// lines of (layOutReasons).
+// lines of (layOutReasons). shownWords stands only over a panel shown: over
+// "Nobody had answered this question" or a retired question it promised
+// every expert's answer on a screen that showed none.
 func (v roomView) shownWords() string {
 	return "Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
 }

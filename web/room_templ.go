@@ -182,7 +182,7 @@ func roomPage(v roomView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		if v.Through > 0 && !v.Held {
+		if v.Through > 0 && v.Note == "" {
 			var templ_7745c5c3_Var12 string
 			templ_7745c5c3_Var12, templ_7745c5c3_Err = templ.JoinStringErrs(v.shownWords())
 			if templ_7745c5c3_Err != nil {
