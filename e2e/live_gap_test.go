@@ -126,3 +126,32 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 	}))
 	p.waitFor("the page to load", `document.readyState === "complete"`)
 }
+
+// TestLivePageFollowsAfterARefusedForm: a page shown again after a
+// refused form (the weights set without a reason, a round opened without
+// one) stands at the form's address, and its script fetched that address
+// on each change: a GET there answers 405, so the panel and the overview
+// stood still while they said they followed new answers. They follow
+// their own address now.
+func TestLivePageFollowsAfterARefusedForm(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 900, false)
+	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
+	fac.open(panel)
+	if st := fac.load("set weights without a reason", chromedp.Click(chromedp.CSS(`form[action$="/weights"] button[type=submit]`))); st != http.StatusUnprocessableEntity {
+		t.Fatalf("weights without a reason: %d, want 422", st)
+	}
+	if u := fac.url(); !strings.HasSuffix(u, "/weights") {
+		t.Fatalf("the refused form's page stands at %s", u)
+	}
+	fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
+	listed := `Array.from(document.querySelectorAll("#reasons li")).some(li => li.innerText.includes("Line audits (invented)."))`
+	if err := fac.poll(liveWithin, listed); err != nil {
+		t.Errorf("the panel shown again after a refused form did not list Priya's new reason within %v: %v", liveWithin, err)
+	}
+	fac.sees("the refused form, still there", "Nothing was saved")
+}

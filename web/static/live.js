@@ -4,7 +4,8 @@
 // An element with data-live-src names the workshop's event stream
 // (text/event-stream, same origin). On each change the page is fetched
 // again and every element marked data-live is replaced by its namesake
-// (same id) in the fresh page, unless the facilitator is typing inside
+// (same id) in the fresh page (data-live-page names it, else the address
+// bar), unless the facilitator is typing inside
 // it. Changes arriving close together are gathered into one fetch.
 (function () {
   "use strict";
@@ -13,6 +14,10 @@
     return;
   }
   var url = src.getAttribute("data-live-src");
+  // The page's own address, where it has one: a page shown again after a
+  // refused form stands at the form's address, which answers no GET, and
+  // fetching that left the page still while it said it followed changes.
+  var page = src.getAttribute("data-live-page") || (window.location.pathname + window.location.search);
   var seen = src.getAttribute("data-live-version") || "";
   var timer = null;
   var busy = false;
@@ -31,7 +36,7 @@
       return;
     }
     busy = true;
-    fetch(window.location.pathname + window.location.search, { credentials: "same-origin", headers: { "Accept": "text/html" } })
+    fetch(page, { credentials: "same-origin", headers: { "Accept": "text/html" } })
       .then(function (resp) {
         if (!resp.ok) { throw new Error("status " + resp.status); }
         return resp.text();
