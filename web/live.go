@@ -273,8 +273,14 @@ func liveVersionOf(ctx context.Context) string {
 }
 
 // publishChanges publishes every facilitator change to a workshop that
-// succeeded: a POST under /w/{workshop} answered below 400. The kind is
-// the last part of its path ("round", "weights", "agree", ...). Any other
+// succeeded: a POST under /w/{workshop} answered with a redirect, as every
+// change is (a form sent twice is sent on to where the first went, which
+// publishes once more, harmlessly). A POST answered 200 changed nothing: a
+// preview of a judgement entered for an expert (sent as the facilitator
+// types), the check of an answer sheet, a confirmation asked for; each
+// sent every live page, the projector's among them, to fetch itself again.
+// The kind is the last part of its path ("round", "weights", "agree", ...).
+// Any other
 // request under /w/{workshop} notes the workshop's live version first,
 // for a live page to carry (liveVersionOf).
 func (s *Server) publishChanges(next http.Handler) http.Handler {
@@ -288,7 +294,7 @@ func (s *Server) publishChanges(next http.Handler) http.Handler {
 		}
 		sr := &statusRecorder{ResponseWriter: w}
 		next.ServeHTTP(sr, r)
-		if sr.status == 0 || sr.status >= 400 {
+		if sr.status < 300 || sr.status >= 400 {
 			return
 		}
 		id, err := strconv.ParseInt(chi.URLParam(r, "workshop"), 10, 64)

@@ -314,3 +314,43 @@ func TestLivePagesCarryTheVersionTheirStreamOpensAt(t *testing.T) {
 		t.Errorf("the round's change carries version %q (before it %q; the room view now %q)", ev.Version, now, versionsOf()[2])
 	}
 }
+
+// A POST that changes nothing publishes nothing: the facilitator's
+// preview of a judgement entered for an expert (sent as they type) and
+// the confirmation asked before an expert's access is ended, as the check
+// of an answer sheet before it is saved would be. Each sent every live page, the
+// projector's room view among them, to fetch itself again for a change
+// that was not made. The change that follows is the next event.
+func TestPostsThatChangeNothingPublishNothing(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if st == nil {
+		t.Fatal("no stream")
+	}
+	entry := entryPath(ws.ID, qs[0].ID, es[2].ID)
+	form := url.Values{"channel": {"paper_form"}, "values[0]": {"0.01"}, "values[1]": {"0.03"}, "values[2]": {"0.09"}}
+	for _, p := range []struct {
+		path string
+		form url.Values
+	}{
+		{entry + "/preview?fragment=1", form},
+		{entry + "/preview", form},
+		{workshopPath(ws.ID) + "/experts/" + strconv.FormatInt(es[2].ID, 10) + "/revoke", url.Values{}},
+	} {
+		r, _ := h.post(p.path, p.form)
+		if r.StatusCode != http.StatusOK {
+			t.Fatalf("%s answered %d, want 200", p.path, r.StatusCode)
+		}
+		select {
+		case ev := <-st.events:
+			t.Errorf("%s (%d), which saves nothing, was published: %+v", p.path, r.StatusCode, ev)
+		case <-time.After(200 * time.Millisecond):
+		}
+	}
+	if r, _ := h.post(entry+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("entry save: %d", r.StatusCode)
+	}
+	if ev := st.next(t, 2*time.Second, "the entry's save"); ev.Kind != "save" || ev.Question != qs[0].ID {
+		t.Errorf("the save's event is %+v", ev)
+	}
+}
