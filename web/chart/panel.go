@@ -6,6 +6,8 @@ import (
 	"strings"
 
 	"github.com/a-h/templ"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // PanelView is several curves for one question overlaid: experts, the
@@ -255,6 +257,9 @@ func newPanelModel(v PanelView) panelModel {
 			axisTitle(v.Quantity, v.Units), v.value(v.Lower), v.value(v.Upper))
 	}
 	b.WriteString(strings.Join(words, "; ") + ". ")
+	for _, same := range sameCurves(curves) {
+		b.WriteString(same + " ")
+	}
 	if t := v.truth(); t != nil {
 		b.WriteString(truthWords(v.value(*t)) + " ")
 	}
@@ -263,6 +268,59 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	m.Desc = strings.TrimSpace(b.String())
 	return m
+}
+
+// asBeta is the one Beta a curve is: a Beta's own, or a mixture's whose
+// components with weight all have the same Beta (a pool that gives one
+// expert all the weight, or a panel of one). ok is false for any other.
+func asBeta(c Curve) (elicit.ScaledBeta, bool) {
+	if b, ok := c.beta(); ok {
+		return b, true
+	}
+	cs := c.components()
+	if p, ok := c.Dist.(elicit.Pool); ok {
+		cs = p.Components
+	}
+	var one elicit.ScaledBeta
+	found := false
+	for _, comp := range cs {
+		switch {
+		case !(comp.Weight > 0):
+		case !found:
+			one, found = comp.Dist, true
+		case comp.Dist != one:
+			return elicit.ScaledBeta{}, false
+		}
+	}
+	return one, found
+}
+
+// sameCurves says which curves are one and the same distribution, so
+// that the last drawn of them lies over the others and one line shows
+// them all: an expert given all the weight and the pool, or two experts
+// with the same fitted Beta. The legend had named a curve the picture
+// seemed not to draw. One sentence for each such group, in the order the
+// curves are drawn.
+func sameCurves(curves []Curve) []string {
+	var out []string
+	done := make([]bool, len(curves))
+	for i := range curves {
+		bi, ok := asBeta(curves[i])
+		if done[i] || !ok {
+			continue
+		}
+		names := []string{curves[i].proseName()}
+		for j := i + 1; j < len(curves); j++ {
+			if bj, ok := asBeta(curves[j]); ok && !done[j] && bj == bi {
+				done[j] = true
+				names = append(names, curves[j].proseName())
+			}
+		}
+		if len(names) > 1 {
+			out = append(out, proseList(names)+" are the same curve, drawn as one line.")
+		}
+	}
+	return out
 }
 
 // panelLegend lays the legend out under g's plots, in the layout's
