@@ -260,7 +260,10 @@ type steadiness struct {
 	Full    []string // the whole panel's pools, as in rerunLine.Pools
 	Rows    []rerunLine
 	Largest string
-	Of      string // what the watched questions are, in words
+	// NoneDone says no rerun could be done (one expert on one
+	// question): Largest, 0, is then no shift measured.
+	NoneDone bool
+	Of       string // what the watched questions are, in words
 }
 
 // poolText writes a pool's 5%, 50% and 95% points on q's bounds, apart
@@ -282,7 +285,10 @@ func newSteadiness(id string, rb *workshop.Robustness, questions []workshop.Ques
 		}
 		return "question " + strconv.FormatInt(id, 10)
 	}
-	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fvSpread(rb.Largest)}
+	s := steadiness{Picture: chart.SteadinessView{ID: id}, Largest: fvSpread(rb.Largest), NoneDone: true}
+	for _, r := range rb.Rows {
+		s.NoneDone = s.NoneDone && r.Error != ""
+	}
 	full := map[int64]workshop.Percentiles{}
 	for _, p := range rb.Full {
 		full[p.QuestionID] = p.Percentiles

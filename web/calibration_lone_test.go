@@ -1,0 +1,55 @@
+package web
+
+import (
+	"context"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// One expert on one calibration question: no rerun of the robustness
+// analysis can be done, and the table's lead said "the largest of all is
+// 0", a steadiness nothing tested.
+func TestSteadinessOfALonePanelSaysNothingWasTested(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Lone panel (invented)", Purpose: "Invented test panel", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	truth := 0.3
+	target := workshop.Question{WorkshopID: ws.ID, Wording: "Target?", Quantity: "target share", Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95}}
+	seed := workshop.Question{WorkshopID: ws.ID, Wording: "Seed?", Quantity: "seed share", Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+		Calibration: true, TrueValue: &truth}
+	for _, q := range []*workshop.Question{&target, &seed} {
+		if err := h.db.AddQuestion(ctx, q); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, hash, err := newToken()
+	if err != nil {
+		t.Fatal(err)
+	}
+	e := workshop.Expert{WorkshopID: ws.ID, Name: "Sole Expert"}
+	if err := h.db.AddExpert(ctx, &e, hash); err != nil {
+		t.Fatal(err)
+	}
+	for q, v := range map[int64][]float64{target.ID: {0.2, 0.3, 0.5}, seed.ID: {0.1, 0.3, 0.5}} {
+		rv := workshop.Revision{QuestionID: q, ExpertID: e.ID, Answer: workshop.Answer{Values: v}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, body := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(body, `id="robustness"`) {
+		t.Fatal("no robustness section")
+	}
+	if strings.Contains(body, "the largest of all is 0") {
+		t.Error("the robustness table says the largest shift is 0 though no rerun was done")
+	}
+	if !strings.Contains(body, "No rerun could be done") {
+		t.Error("the robustness table does not say no rerun could be done")
+	}
+}
