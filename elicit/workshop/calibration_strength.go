@@ -53,6 +53,12 @@ func CalibrationWarnings(scored int, experts []PerformanceExpert) []elicit.Warni
 			scored, plural(scored, "question was", "questions were"), RecommendedCalibrationQuestions)})
 	}
 	for _, e := range experts {
+		if e.Weight > DominantWeight && len(experts) == 1 {
+			out = append(out, elicit.Warning{Code: WarnOneExpertDominates, Message: fmt.Sprintf(
+				"%s is the only expert scored, so the performance-weighted pool is %s's judgement alone: "+
+					"the scores weigh no one against anyone.", e.Name, e.Name)})
+			continue
+		}
 		if e.Weight > DominantWeight {
 			out = append(out, elicit.Warning{Code: WarnOneExpertDominates, Message: fmt.Sprintf(
 				"%s has %s of the weight (more than %s): the performance-weighted pool is in effect %s's judgement alone, "+

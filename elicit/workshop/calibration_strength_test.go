@@ -140,3 +140,17 @@ func TestDominanceWarningKeepsItsSide(t *testing.T) {
 		}
 	}
 }
+
+// A panel of one has no other experts whose answers could barely count:
+// the warning said they did. It says the pool is that expert's judgement
+// alone, as the only expert on the panel. (Our wording, no source.)
+func TestDominanceWarningOfAPanelOfOne(t *testing.T) {
+	m := warningSet(workshop.CalibrationWarnings(3, []workshop.PerformanceExpert{{Name: "Ann", Answered: 3, Weight: 1}}))
+	got := m[workshop.WarnOneExpertDominates]
+	if strings.Contains(got, "other experts") {
+		t.Errorf("a panel of one: %q speaks of other experts", got)
+	}
+	if !strings.Contains(got, "Ann is the only expert scored, so the performance-weighted pool is Ann's judgement alone") {
+		t.Errorf("a panel of one: %q", got)
+	}
+}
