@@ -163,6 +163,9 @@ func alphaOf(f *Form) *float64 {
 		f.set("alpha", string(elicit.RuleUnitInterval))
 		return nil
 	}
+	if v == 0 {
+		v = 0 // -0 typed is the cut-off 0, not a -0 stored and exported
+	}
 	return &v
 }
 

@@ -1,6 +1,8 @@
 package web
 
 import (
+	"context"
+	"math"
 	"net/http"
 	"net/url"
 	"strings"
@@ -74,5 +76,34 @@ func TestTinyFixedCutOffIsWrittenShort(t *testing.T) {
 	// An ordinary cut-off keeps its plain decimals, as typed.
 	if _, body := p.h.get(p.path() + "?alpha=0.00005"); !strings.Contains(body, "Cut-off α = 0.00005, fixed by the facilitator") {
 		t.Error("the cut-off 0.00005 is not written as typed")
+	}
+}
+
+// A cut-off typed as -0 is the cut-off 0 and is written so: the sentence
+// said "Cut-off α = -0".
+func TestNegativeZeroCutOffIsWrittenZero(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	_, body := p.h.get(p.path() + "?alpha=-0")
+	if strings.Contains(body, "α = -0") || !strings.Contains(body, "Cut-off α = 0, fixed by the facilitator") {
+		t.Error("the cut-off -0 is not written as 0")
+	}
+}
+
+// Performance weights set with the cut-off typed as -0 store the cut-off
+// 0: the record's JSON said "alpha": -0.
+func TestNegativeZeroCutOffIsStoredZero(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	res, _ := p.h.post(p.path()+"/weights", url.Values{"scheme": {"performance"}, "alpha": {"-0"}, "reason": {"everyone counts (invented)"}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("weights with the cut-off -0: %d", res.StatusCode)
+	}
+	wt, err := p.h.db.Weights(context.Background(), p.ws.ID)
+	if err != nil || wt.Basis == nil {
+		t.Fatalf("stored %+v, %v", wt, err)
+	}
+	if math.Signbit(wt.Basis.Alpha) {
+		t.Errorf("the stored cut-off is %v", wt.Basis.Alpha)
 	}
 }

@@ -87,6 +87,9 @@ func alphaSentence(alpha float64, logAlpha *float64, rule string) string {
 // decimals is 320 zeros, one unbroken line off the screen. It is then
 // written in the shortest exponent form that reads back to it.
 func typedCutOff(alpha float64) string {
+	if alpha == 0 {
+		return "0" // not "-0", as -0 typed reads
+	}
 	if s := input.Typed(alpha, false); len(s) <= 20 {
 		return s
 	}
