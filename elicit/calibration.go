@@ -251,6 +251,12 @@ func ClassicalModel(assessments []SeedAssessment, realisations map[string]float6
 		if a < 0 || a > 1 {
 			return Scores{}, inputErr("alpha", RuleUnitInterval, "got %v", a)
 		}
+		if a == 0 {
+			// −0 is the cut-off 0: kept as −0 it was printed and
+			// exported "-0".
+			a = 0
+			opt.Alpha = &a
+		}
 	}
 	return set.score(opt.Alpha)
 }
