@@ -5,6 +5,7 @@ import (
 	"math"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strings"
 	"testing"
 )
@@ -105,5 +106,22 @@ func TestNegativeZeroCutOffIsStoredZero(t *testing.T) {
 	}
 	if math.Signbit(wt.Basis.Alpha) {
 		t.Errorf("the stored cut-off is %v", wt.Basis.Alpha)
+	}
+}
+
+// Without scores (a cut-off refused) the page has no robustness section,
+// and its contents list no longer links one: the link led nowhere.
+func TestContentsLinkOnlySectionsOnThePage(t *testing.T) {
+	p := newSeedPanel(t)
+	p.enterTruths(t, false)
+	for _, q := range []string{"", "?alpha=0.99"} {
+		_, body := p.h.get(p.path() + q)
+		nav := body[strings.Index(body, `class="page-contents`):]
+		nav = nav[:strings.Index(nav, "</nav>")]
+		for _, m := range regexp.MustCompile(`href="#([a-z-]+)"`).FindAllStringSubmatch(nav, -1) {
+			if !strings.Contains(body, `id="`+m[1]+`"`) {
+				t.Errorf("alpha %q: the contents link #%s, which is not on the page", q, m[1])
+			}
+		}
 	}
 }
