@@ -71,9 +71,12 @@ type calibrationView struct {
 	Robustness      *workshop.Robustness
 	RobustnessError string
 
-	Compare     []workshop.PoolComparison
-	Weights     workshop.Weights // in force
-	InForce     bool             // the weights in force are these performance weights
+	Compare []workshop.PoolComparison
+	Weights workshop.Weights // in force
+	InForce bool             // the weights in force are these performance weights
+	// Changed says what has changed since the performance weights in
+	// force were set, when they differ from the page's (weightsChanged).
+	Changed     string
 	Experts     []workshop.Expert
 	WeightsForm *Form
 }
@@ -240,6 +243,9 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 			if inForce, err := workshop.PerformanceInForce(set, d.Weights); err == nil {
 				v.InForce = inForce.InForce && sameWeightMap(inForce.WeightsByExpert(), perf)
 			}
+			if !v.InForce && d.Weights.Scheme == workshop.WeightsPerformance {
+				v.Changed = weightsChanged(d.Weights.Basis, set, alpha)
+			}
 			if rb, err := workshop.PerformanceRobustness(set, d.Questions, d.Experts, d.Revisions, alpha); err != nil {
 				v.RobustnessError = s.scoringProblem(err, d)
 			} else {
@@ -275,6 +281,95 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 // noPerformancePool stands in the comparison's performance rows when
 // the page has no scores to weight by.
 const noPerformancePool = "no performance weights: the scores above could not be computed"
+
+// weightsChanged says what differs between the basis b of the
+// performance weights in force and the set and cut-off the page scores
+// with, as "the true values and the cut-off have changed": the page said "the answers
+// or the cut-off have changed" whatever had, though a true value
+// corrected or a question's scale changed moves the weights as well. It
+// falls back on that sentence where b was not stored (weights set before
+// Parley kept it) or nothing stored differs.
+func weightsChanged(b *workshop.WeightBasis, set workshop.CalibrationSet, alpha *float64) string {
+	const unknown = "the answers or the cut-off have changed"
+	if b == nil {
+		return unknown
+	}
+	var what []string
+	current := map[int64]workshop.Question{}
+	for _, q := range set.Questions {
+		current[q.ID] = q
+	}
+	questions, truths, scales := len(b.Questions) != len(set.Questions), false, false
+	for _, bq := range b.Questions {
+		q, ok := current[bq.QuestionID]
+		switch {
+		case !ok:
+			questions = true
+		case bq.TrueValue != nil && q.TrueValue != nil && *bq.TrueValue != *q.TrueValue:
+			truths = true
+		case bq.LogScale != q.LogScale:
+			scales = true
+		}
+	}
+	if questions {
+		what = append(what, "the calibration questions scored")
+	}
+	if truths {
+		what = append(what, "the true values")
+	}
+	if scales {
+		what = append(what, "the scale a question's information is scored on")
+	}
+	type key struct{ expert, question int64 }
+	stored := map[key]int64{}
+	for _, a := range b.CalibrationAnswers {
+		stored[key{a.ExpertID, a.QuestionID}] = a.RevisionID
+	}
+	answers := len(b.CalibrationAnswers) != len(set.Assessments)
+	for i, a := range set.Assessments {
+		var k key
+		for _, e := range set.Experts {
+			if workshop.SeedExpertKey(e.ID) == a.Expert {
+				k.expert = e.ID
+			}
+		}
+		for _, q := range set.Questions {
+			if workshop.SeedQuestionKey(q.ID) == a.Question {
+				k.question = q.ID
+			}
+		}
+		if r, ok := stored[k]; !ok || r != set.RevisionIDs[i] {
+			answers = true
+		}
+	}
+	if answers {
+		what = append(what, "the experts' answers")
+	}
+	experts := len(b.Experts) != len(set.Experts)
+	active := map[int64]bool{}
+	for _, e := range set.Experts {
+		active[e.ID] = true
+	}
+	for _, e := range b.Experts {
+		experts = experts || !active[e.ExpertID]
+	}
+	if experts {
+		what = append(what, "the experts on the panel")
+	}
+	fixed := b.AlphaRule == workshop.AlphaFixed
+	if fixed != (alpha != nil) || fixed && *alpha != b.Alpha {
+		what = append(what, "the cut-off")
+	}
+	switch len(what) {
+	case 0:
+		return unknown
+	case 1:
+		if what[0] == "the cut-off" || strings.HasPrefix(what[0], "the scale") {
+			return what[0] + " has changed"
+		}
+	}
+	return wordList(what) + " have changed"
+}
 
 func sameWeightMap(a, b map[int64]float64) bool {
 	if len(a) != len(b) {
