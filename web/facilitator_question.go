@@ -154,10 +154,17 @@ func parseQuestion(f *Form) workshop.Question {
 	}
 	if f.Checked("calibration") {
 		q.Calibration = true
-		if v, ok := f.OptionalFloat("true_value"); ok {
-			q.TrueValue = &v
-		} else if strings.TrimSpace(f.Value("true_value")) == "" {
+		if strings.TrimSpace(f.Value("true_value")) == "" {
 			f.set("true_value", string(elicit.RuleRequired)+" for a calibration question")
+		} else {
+			// A proportion's true value takes a % sign, as on the
+			// calibration page and in the experts' answers (bounds
+			// [0, 1] typed in this same form make it a proportion).
+			v, _, err := workshop.ParseAnswerNumber("true_value", f.Value("true_value"), q, false)
+			f.failField("true_value", err)
+			if err == nil {
+				q.TrueValue = &v
+			}
 		}
 	} else if strings.TrimSpace(f.Value("true_value")) != "" {
 		// Not dropped in silence: a true value belongs to a calibration
