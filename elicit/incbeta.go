@@ -156,6 +156,20 @@ func rlog1(t float64) float64 {
 	return r*t - 2*r*r2*s
 }
 
+// rlogRatio is rlog1(e) for 1 + e = x/x0, the ratio of x (with y = 1 − x)
+// to its mean x0: below 0.7 it is e − (ln x − ln x0), from x itself,
+// since 1 + e formed from e (a − (a+b)x over a) keeps only the absolute
+// precision of a: for x far below x0 the digits of x/x0 cancel, and
+// below x0·2⁻⁵³ it rounds to 0 and rlog1 to +Inf (Beta(10, 50).CDF(1e-20)
+// was 0 for R's 6.28e-190, and CDF(1e-8) 5e-9 relative off). DiDonato &
+// Morris (1992, BRCOMP) switch the same way.
+func rlogRatio(e, x, y, x0 float64) float64 {
+	if e >= -0.3 {
+		return rlog1(e)
+	}
+	return e - (logX(x, y) - math.Log(x0))
+}
+
 // lnPower is log(x^a y^b / B(a, b)) for y = 1 − x, both in (0, 1).
 func (c *incBeta) lnPower(x, y float64) float64 {
 	a, b := c.a, c.b
@@ -167,7 +181,7 @@ func (c *incBeta) lnPower(x, y float64) float64 {
 		} else {
 			lam = (a+b)*y - b
 		}
-		return c.c0 - a*rlog1(-lam/a) - b*rlog1(lam/b)
+		return c.c0 - a*rlogRatio(-lam/a, x, y, a/(a+b)) - b*rlogRatio(lam/b, y, x, b/(a+b))
 	}
 	return a*logX(x, y) + b*logX(y, x) + c.c0
 }
