@@ -121,10 +121,12 @@ var ErrFitFailed = errors.New("elicit: no Beta within the accuracy envelope fits
 // probability by more than 0.035 (closeFit), from two further starts at
 // the same mean with α+β 30 times larger and smaller; and unless the best
 // fit then misses by no more than PoorFitThreshold, from a deterministic
-// grid of starts over α+β and the mean. A judgement of two pairs is
-// matched exactly (|F(xᵢ) − pᵢ| ≤ 1e-10) by a final Newton root-finding
-// polish, or refused with ErrFitFailed if no Beta in the search range
-// matches it.
+// grid of starts over α+β and the mean. A judgement that states a
+// probability beyond 1e-4 of 0 or 1 also starts from the Betas that match
+// two of its pairs exactly (pairStarts: its first and last, and each with
+// the one nearest the median). A judgement of two pairs is matched exactly
+// (|F(xᵢ) − pᵢ| ≤ 1e-10), or refused with RuleFitRange if no Beta in the
+// search range matches it.
 func FitQuantiles(j Judgement) (Fit, error) {
 	if err := j.Validate(); err != nil {
 		return Fit{}, err
@@ -309,7 +311,7 @@ const (
 // box matches exactly are refused with RuleFitRange on field.
 func fitCumulative(field string, u, p []float64) (d Beta, sse float64, resid []float64, err error) {
 	q := newLSQ(u, p)
-	res := q.fitGlobal([][2]float64{q.momentStart()})
+	res := q.fitGlobal(append([][2]float64{q.momentStart()}, q.pairStarts()...))
 	if !res.certified && !res.bnb {
 		res = q.fitGlobal(append([][2]float64{res.th}, q.gridStarts(moreStarts)...))
 	}

@@ -17,6 +17,9 @@ func FuzzFitQuantiles(f *testing.F) {
 	f.Add(uint8(3), 0.05, 0.5, 0.95, 0.0, 0.0, 0.97, 0.985, 0.995, 0.0, 0.0, 0.0, 1.0)
 	f.Add(uint8(3), 0.25, 0.5, 0.75, 0.0, 0.0, 0.1, 0.11, 0.9, 0.0, 0.0, 0.0, 1.0)
 	f.Add(uint8(4), 0.1, 0.2, 0.3, 0.4, 0.0, -5.0, -4.0, 1e3, 1e4, 0.0, -10.0, 1e5)
+	// Tails beyond pairTail, where the fit also starts from two-pair matches.
+	f.Add(uint8(3), 1e-8, 0.5, 1-1e-8, 0.0, 0.0, 3.2616276475626326e-06, 0.5, 0.99999673837235244, 0.0, 0.0, 0.0, 1.0)
+	f.Add(uint8(5), 1e-12, 0.25, 0.5, 0.75, 1-1e-12, 0.1, 0.11, 0.12, 0.9, 0.95, 0.0, 1.0)
 	f.Fuzz(func(t *testing.T, n uint8, p0, p1, p2, p3, p4, v0, v1, v2, v3, v4, lower, upper float64) {
 		k := int(n % 7)
 		ps := []float64{p0, p1, p2, p3, p4}
