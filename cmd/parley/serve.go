@@ -129,19 +129,24 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stdout, "parley: kept the fits of %d earlier revisions\n", n)
 	}
 
-	// The secret exists before anything binds, so a non-loopback address is
+	// The address is bound before a new secret is issued: a port in use
+	// (another program on 8080) stopped the server after it had issued a
+	// secret it never printed, and the next start said that "the sign-in
+	// address printed earlier is still unused". Nothing is served until
+	// the secret exists (hs.Serve, below), so a non-loopback address is
 	// never served without one.
+	ln, err := net.Listen(listenNetwork(host), c.addr)
+	if err != nil {
+		return fmt.Errorf("--addr %s: %w (give another host:port with --addr)", c.addr, err)
+	}
 	secret, err := web.EnsureFacilitatorSecret(ctx, db)
 	if err != nil {
+		ln.Close()
 		return err
 	}
 	if h, err := db.FacilitatorHash(ctx); err != nil || len(h) == 0 {
-		return fmt.Errorf("no facilitator secret is set, so Parley will not listen (%v)", err)
-	}
-
-	ln, err := net.Listen(listenNetwork(host), c.addr)
-	if err != nil {
-		return err
+		ln.Close()
+		return fmt.Errorf("no facilitator secret is set, so Parley will not serve (%v)", err)
 	}
 	scheme := "http"
 	if c.tlsCert != "" {

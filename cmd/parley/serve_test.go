@@ -384,3 +384,35 @@ func TestFacilitatorResetChecksAddr(t *testing.T) {
 		t.Errorf("--addr 0.0.0.0:8080: exit %d: %q", code, out.String())
 	}
 }
+
+// TestServeOnAPortInUseIssuesNoSecret: a start that cannot bind its
+// address issues no sign-in secret, so the next start prints one. It
+// issued one and stopped without printing it; the next start said "the
+// sign-in address printed earlier is still unused" of an address nobody
+// saw.
+func TestServeOnAPortInUseIssuesNoSecret(t *testing.T) {
+	taken, err := net.Listen("tcp4", "127.0.0.1:0")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer taken.Close()
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	var out, errOut syncBuffer
+	err = serve(context.Background(), serveConfig{addr: taken.Addr().String(), db: dbPath, noDemo: true}, &out, &errOut)
+	if err == nil {
+		t.Fatal("serve on a port in use: no error")
+	}
+	if !strings.Contains(err.Error(), "--addr "+taken.Addr().String()) {
+		t.Errorf("serve on a port in use: %v; want an error naming --addr", err)
+	}
+	if strings.Contains(out.String(), "sign-in") {
+		t.Errorf("a start that did not bind spoke of a sign-in address:\n%s", out.String())
+	}
+	_, out2, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath, noDemo: true})
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+	if !signInLine.MatchString(out2.String()) {
+		t.Errorf("the next start printed no sign-in address:\n%s", out2.String())
+	}
+}
