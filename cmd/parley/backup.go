@@ -36,7 +36,7 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if _, err := os.Lstat(*out); err == nil {
 		return fail(stderr, "backup", badInput("out", "%s already exists; backup never overwrites", *out))
 	}
-	if err := inFolder("out", *out); err != nil {
+	if err := creatable("out", *out); err != nil {
 		return fail(stderr, "backup", err)
 	}
 	db, err := openExisting(*dbPath)
@@ -127,4 +127,24 @@ func inFolder(flag, path string) error {
 		return badInput(flag, "%s is not a folder", dir)
 	}
 	return nil
+}
+
+// creatable checks, by making and removing a hidden file beside it, that
+// a new file can be made where a flag names one; a folder that cannot be
+// written to is bad input naming the flag, not an error about a
+// temporary name or "unable to open database" after the work is done.
+func creatable(flag, path string) error {
+	if err := inFolder(flag, path); err != nil {
+		return err
+	}
+	f, err := os.CreateTemp(filepath.Dir(path), "."+filepath.Base(path)+".check-*")
+	if err != nil {
+		var pe *fs.PathError
+		if errors.As(err, &pe) {
+			err = pe.Err
+		}
+		return badInput(flag, "cannot make a file in %s: %v", filepath.Dir(path), err)
+	}
+	f.Close()
+	return os.Remove(f.Name())
 }

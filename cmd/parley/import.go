@@ -30,7 +30,7 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if fi, err := os.Stat(*dbPath); err == nil && fi.IsDir() {
 		return fail(stderr, "import", badInput("db", "%s is a folder; name the database file in it (a new one is created)", *dbPath))
 	} else if err != nil {
-		if err := inFolder("db", *dbPath); err != nil {
+		if err := creatable("db", *dbPath); err != nil {
 			return fail(stderr, "import", err)
 		}
 	}

@@ -671,3 +671,34 @@ func TestStoreCommandsRefuseAFileThatIsNoDatabase(t *testing.T) {
 		t.Error("a refused command changed the file given as --db")
 	}
 }
+
+// TestNewFileWhereNoneCanBeMade: backup's --out and import's new --db in
+// a folder where no file can be made (here /proc, as a read-only or
+// foreign folder refuses) are bad input naming the flag, checked before
+// the work; they exited 1 after it, "store: backup to …: unable to open
+// database" and "open /proc/.new.db.importing-…", a name nobody typed.
+func TestNewFileWhereNoneCanBeMade(t *testing.T) {
+	if f, err := os.CreateTemp("/proc", "parley-*"); err == nil {
+		f.Close()
+		os.Remove(f.Name())
+		t.Skip("/proc takes files here")
+	}
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	record := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	for _, c := range []struct {
+		args []string
+		says string
+	}{
+		{[]string{"backup", "--db", path, "--out", "/proc/parley-copy.db"}, "--out: cannot make a file in /proc"},
+		{[]string{"import", "--db", "/proc/parley-new.db", "--in", record}, "--db: cannot make a file in /proc"},
+	} {
+		code, out, errs := run(c.args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, c.says) {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 saying %q", c.args, code, out, errs, c.says)
+		}
+	}
+}
