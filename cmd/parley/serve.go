@@ -192,7 +192,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): %s%s\n", base, web.SignInPath(secret))
 	} else {
 		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin: the sign-in address printed earlier is still unused and works once "+
-			"(lost it? parley facilitator-reset --db %s --keep-signed-in)\n", base, dbPath)
+			"(lost it? parley facilitator-reset --db %s --keep-signed-in --base-url %s)\n", base, dbPath, base)
 	}
 
 	hs := &http.Server{

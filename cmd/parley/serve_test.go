@@ -137,9 +137,15 @@ func TestServeFirstStartSignInDemoAndShutdown(t *testing.T) {
 	}
 	// Third start: the second address is unused, so none is printed; the
 	// line says the earlier one still works.
-	_, out3, _, stop3 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	base3, out3, _, stop3 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
 	if signInLine.MatchString(out3.String()) || !strings.Contains(out3.String(), "printed earlier is still unused and works once") {
 		t.Errorf("third start with an unused address:\n%s", out3)
+	}
+	// The command it suggests for a lost address prints this server's
+	// address, not the default http://127.0.0.1:8080 (another port, or
+	// https under --tls-cert, which the sign-in address would not open).
+	if !strings.Contains(out3.String(), "parley facilitator-reset --db "+dbPath+" --keep-signed-in --base-url "+base3+")") {
+		t.Errorf("third start: the suggested facilitator-reset does not give this server's --base-url %s:\n%s", base3, out3)
 	}
 	if err := stop3(); err != nil {
 		t.Fatal(err)
