@@ -707,3 +707,26 @@ func TestPoolKeepsItsJSONShape(t *testing.T) {
 		}
 	}
 }
+
+// TestFlagErrorsNameTheFlagFirst: the flag package's own refusals name
+// the flag as every other refusal names its field, first and spelled
+// --name, then the rule; they read "flag provided but not defined:
+// -bogus" and "invalid value "many" for flag -expert-save-burst: parse
+// error".
+func TestFlagErrorsNameTheFlagFirst(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		want string
+	}{
+		{[]string{"fit", "--bogus"}, "parley fit: bad input: --bogus: is not a flag of parley fit (parley fit -h lists its flags)\n"},
+		{[]string{"update", "--format"}, "parley update: bad input: --format: needs a value\n"},
+		{[]string{"prior", "--uniform=maybe"}, `parley prior: bad input: --uniform: takes no value, or =true or =false, got "maybe"` + "\n"},
+		{[]string{"serve", "--expert-save-burst", "many"}, `parley serve: bad input: --expert-save-burst: must be a whole number, got "many"` + "\n"},
+		{[]string{"serve", "--expert-save-burst", "99999999999999999999"}, `parley serve: bad input: --expert-save-burst: is out of range, got "99999999999999999999"` + "\n"},
+	} {
+		code, out, errs := run(c.args...)
+		if code != exitBadInput || out != "" || errs != c.want {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 and %q", c.args, code, out, errs, c.want)
+		}
+	}
+}

@@ -7,6 +7,7 @@ import (
 	"fmt"
 	"io"
 	"math"
+	"regexp"
 	"strconv"
 	"strings"
 
@@ -40,12 +41,50 @@ func parseArgs(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code 
 		return exitOK, false
 	}
 	if err != nil {
-		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), fmt.Errorf("%w: %v", errBadInput, err)), false
+		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), flagError(fs, err)), false
 	}
 	if fs.NArg() > 0 {
 		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), strayArgument(args, len(args)-fs.NArg())), false
 	}
 	return exitOK, true
+}
+
+// Go's flag package words its errors with the flag after one dash
+// ("flag provided but not defined: -bogus"); flagError puts the flag
+// first, as every other refusal names its field, spelled as README
+// spells it (--bogus), with the rule after it.
+var (
+	flagUndefined = regexp.MustCompile(`^flag provided but not defined: -+(.*)$`)
+	flagNoValue   = regexp.MustCompile(`^flag needs an argument: -+(.*)$`)
+	flagBadValue  = regexp.MustCompile(`^invalid (?:boolean )?value ("(?:[^"\\]|\\.)*") for (?:flag )?-+([^:]*): (.*)$`)
+)
+
+func flagError(fs *flag.FlagSet, err error) error {
+	msg := err.Error()
+	if m := flagUndefined.FindStringSubmatch(msg); m != nil {
+		return badInput(m[1], "is not a flag of %s (%s -h lists its flags)", fs.Name(), fs.Name())
+	}
+	if m := flagNoValue.FindStringSubmatch(msg); m != nil {
+		return badInput(m[1], "needs a value")
+	}
+	if m := flagBadValue.FindStringSubmatch(msg); m != nil {
+		rule := "is not a value it takes (" + m[3] + ")"
+		if f := fs.Lookup(m[2]); f != nil {
+			if g, ok := f.Value.(flag.Getter); ok {
+				switch g.Get().(type) {
+				case bool:
+					rule = "takes no value, or =true or =false"
+				case int, int64, uint, uint64:
+					rule = "must be a whole number"
+					if strings.Contains(m[3], "out of range") {
+						rule = "is out of range"
+					}
+				}
+			}
+		}
+		return badInput(m[2], "%s, got %s", rule, m[1])
+	}
+	return fmt.Errorf("%w: %v", errBadInput, err)
 }
 
 // strayArgument describes args[i], a word that is no flag nor a flag's
