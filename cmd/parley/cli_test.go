@@ -7,6 +7,7 @@ import (
 	"math"
 	"os"
 	"os/exec"
+	"path/filepath"
 	"strconv"
 	"strings"
 	"testing"
@@ -727,6 +728,37 @@ func TestFlagErrorsNameTheFlagFirst(t *testing.T) {
 		code, out, errs := run(c.args...)
 		if code != exitBadInput || out != "" || errs != c.want {
 			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 and %q", c.args, code, out, errs, c.want)
+		}
+	}
+}
+
+// TestEmptyFlagValueIsRefused: a flag given an empty value (a script's
+// empty variable) is refused naming the flag, never read as the flag left
+// out: fingerprint --check "" listed the values and exited 0, as a found
+// value does; export --question "" wrote every question.
+func TestEmptyFlagValueIsRefused(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	record := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	for _, c := range []struct {
+		args []string
+		flag string
+	}{
+		{[]string{"fingerprint", "--in", record, "--check", ""}, "check"},
+		{[]string{"fingerprint", "--in", record, "--check", "  "}, "check"},
+		{[]string{"export", "--db", path, "--workshop", ws, "--question", ""}, "question"},
+		{[]string{"export", "--db", path, "--workshop", ws, "--out", ""}, "out"},
+		{[]string{"calibrate", "--input", "../../testdata/calibration/inverter_seeds.csv", "--alpha", ""}, "alpha"},
+		{[]string{"calibrate", "--input", "../../testdata/calibration/inverter_seeds.csv", "--overshoot", ""}, "overshoot"},
+		{[]string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12", "--lower", ""}, "lower"},
+		{[]string{"facilitator-reset", "--db", path, "--base-url", ""}, "base-url"},
+	} {
+		code, out, errs := run(c.args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, "--"+c.flag+": is empty") {
+			t.Errorf("%v: exit %d, %d bytes on stdout, stderr %q; want 2 naming --%s", c.args, code, len(out), errs, c.flag)
 		}
 	}
 }

@@ -46,6 +46,20 @@ func parseArgs(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code 
 	if fs.NArg() > 0 {
 		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), strayArgument(args, len(args)-fs.NArg())), false
 	}
+	// A flag given an empty value is most often a script's empty
+	// variable (--check "$NOTED"); read as the flag left out, it changed
+	// what was asked: fingerprint --check "" listed the values and exited
+	// 0 as if a noted value had been found, export --question "" wrote
+	// every question, calibrate --alpha "" optimised the cut-off.
+	var empty string
+	fs.Visit(func(f *flag.Flag) {
+		if empty == "" && strings.TrimSpace(f.Value.String()) == "" {
+			empty = f.Name
+		}
+	})
+	if empty != "" {
+		return fail(stderr, strings.TrimPrefix(fs.Name(), "parley "), badInput(empty, "is empty: give it a value, or leave the flag out for its default")), false
+	}
 	return exitOK, true
 }
 

@@ -138,7 +138,7 @@ func TestPriorBadInput(t *testing.T) {
 		{"sd too small", []string{"prior", "--mean", "0.5", "--sd", "1e-9"}, []string{"sd", string(elicit.RuleShapeTooLarge)}},
 		{"interval one end", []string{"prior", "--interval", "0.1", "--coverage", "0.9"}, []string{"--interval", "two numbers"}},
 		{"interval three", []string{"prior", "--interval", "0.1,0.2,0.3", "--coverage", "0.9"}, []string{"--interval", "two numbers"}},
-		{"interval empty", []string{"prior", "--interval", "", "--coverage", "0.9"}, []string{"interval", string(elicit.RuleRequired)}},
+		{"interval empty", []string{"prior", "--interval", "", "--coverage", "0.9"}, []string{"--interval", "is empty"}},
 		{"interval syntax", []string{"prior", "--interval", "0.1,1/5", "--coverage", "0.9"}, []string{"interval[1]", "plain decimal"}},
 		{"interval reversed", []string{"prior", "--interval", "0.2,0.1", "--coverage", "0.9"}, []string{"interval[1]", string(elicit.RuleValueIncreasing)}},
 		{"interval at 0", []string{"prior", "--interval", "0,0.1", "--coverage", "0.9"}, []string{"interval[0]", string(elicit.RuleValueInBounds)}},
