@@ -14,6 +14,7 @@ import (
 	"text/tabwriter"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 )
 
@@ -226,6 +227,11 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		if err != nil {
 			return nil, csvError(err)
 		}
+		if strings.TrimSpace(strings.Join(rec, "")) == "" {
+			// A row of empty cells, as a spreadsheet writes below its
+			// data (",,,,,"): no assessment, as the answer sheet reads it.
+			continue
+		}
 		row, _ := cr.FieldPos(0)
 		field := func(col string) string { return fmt.Sprintf("row %d: %s", row, col) }
 		cell := func(i int) string {
@@ -425,6 +431,16 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	cols := make([]string, len(header))
 	for i, h := range header {
 		cols[i] = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
+	}
+	if len(cols) == 1 {
+		// A spreadsheet set to a decimal comma saves CSV with semicolons
+		// (or tabs) between the columns, as the answer sheet says.
+		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
+			if strings.Contains(cols[0], sep.char) {
+				return nil, nil, &elicit.InputError{Field: "header", Rule: answersheet.RuleCommas,
+					Detail: "the columns are separated by " + sep.name}
+			}
+		}
 	}
 	for i, want := range seedHeader {
 		if i >= len(cols) || (cols[i] != want && !(want == "realization" && cols[i] == "realisation")) {

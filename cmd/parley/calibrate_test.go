@@ -15,6 +15,7 @@ import (
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -238,6 +239,11 @@ func TestCalibrateBadInput(t *testing.T) {
 		{"log lower bound below 0", scaleHead + "A,s1,1,-1,9,log-uniform,0.5,1,2\n", nil, []string{"row 2: lower", string(elicit.RuleLogScalePositive)}},
 		{"log quantile below 0", "expert,question,realization,background,q05,q50,q95\nA,s1,1,log-uniform,-0.5,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleLogScalePositive)}},
 		{"scales differ", scaleHead + "A,s1,1,0,9,log-uniform,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: background", string(ruleSameScale), "uniform here, log-uniform on row 2"}},
+		// A spreadsheet set to a decimal comma saves semicolons or tabs
+		// between the columns, said as the answer sheet says it; it read
+		// "header column 1: … (want "expert")".
+		{"semicolons", "expert;question;realization;q05;q50;q95\nA;s1;1;0;1;2\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
+		{"tabs", "expert\tquestion\trealization\tq05\tq50\tq95\nA\ts1\t1\t0\t1\t2\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by tabs"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -934,5 +940,17 @@ func TestCalibrateLogScale(t *testing.T) {
 	if code != 0 || !strings.Contains(out, "Information against the log-uniform background (range and overshoot on ln x): arc_fault_rate_per_hour, connector_melt_share, firmware_bricked_share, surge_damage_share") ||
 		!strings.Contains(out, "else its intrinsic range; against the log-uniform background, of ln x against its intrinsic range on ln x)") {
 		t.Errorf("text output:\n%s", out)
+	}
+}
+
+// TestCalibrateSkipsRowsOfEmptyCells: a row of empty cells, as a
+// spreadsheet writes below its data (",,,,,"), is no assessment, as the
+// answer sheet reads it; it was refused as "row 4: expert: is required".
+func TestCalibrateSkipsRowsOfEmptyCells(t *testing.T) {
+	const sheet = "expert,question,realization,q05,q50,q95\r\nA,s1,1,0,1,2\r\nB,s1,1,0.5,1.5,3\r\n"
+	_, want, _ := runCLI(t, sheet, "calibrate", "--input", "-", "--format", "json")
+	code, got, errOut := runCLI(t, sheet+",,,,,\r\n , , ,,,\r\n,,,,,\r\n", "calibrate", "--input", "-", "--format", "json")
+	if code != exitOK || got != want || want == "" {
+		t.Errorf("with rows of empty cells: exit %d, %q; want the scores without them\n%s", code, errOut, got)
 	}
 }
