@@ -102,6 +102,9 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("db", "%v", err)
 	}
+	if fi, err := os.Stat(dbPath); err == nil && fi.IsDir() {
+		return badInput("db", "%s is a folder; name the database file in it (a new one is created)", c.db)
+	}
 	// Before anything is opened: the file must be writable (or the first
 	// save would be the first to find out), and no other server may be
 	// serving it (each would serve rows the other changed).
@@ -115,7 +118,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	defer claim.Release()
 	db, err := store.Open(dbPath)
 	if err != nil {
-		return err
+		return notADatabase(c.db, err)
 	}
 	defer db.Close()
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)

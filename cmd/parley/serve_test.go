@@ -422,3 +422,31 @@ func TestServeOnAPortInUseIssuesNoSecret(t *testing.T) {
 		t.Errorf("the next start printed no sign-in address:\n%s", out2.String())
 	}
 }
+
+// TestServeRefusesAFolderOrAnotherFileAsItsDatabase: --db naming a
+// folder, or a file that is no database (the exported record, by a
+// slip), is bad input naming --db, as the other commands say it; serve
+// said "cannot write …: open …: is a directory" and "store: open …: file
+// is not a database", exit 1.
+func TestServeRefusesAFolderOrAnotherFileAsItsDatabase(t *testing.T) {
+	dir := t.TempDir()
+	record := filepath.Join(dir, "record.json")
+	if err := os.WriteFile(record, []byte(`{"parley_record": 1}`), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	for _, c := range []struct{ db, says string }{
+		{dir, "--db: " + dir + " is a folder"},
+		{record, "--db: " + record + " is not a Parley database"},
+	} {
+		ctx, cancel := context.WithCancel(context.Background())
+		cancel()
+		var out, errOut syncBuffer
+		err := serve(ctx, serveConfig{addr: "127.0.0.1:0", db: c.db, noDemo: true}, &out, &errOut)
+		if err == nil || fail(io.Discard, "serve", err) != exitBadInput || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("--db %s: %v; want bad input saying %q", c.db, err, c.says)
+		}
+	}
+	if b, _ := os.ReadFile(record); string(b) != `{"parley_record": 1}` {
+		t.Errorf("serve changed the file given as --db: %q", b)
+	}
+}
