@@ -8,6 +8,7 @@ import (
 	"os"
 	"path/filepath"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
@@ -110,8 +111,12 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return fail(stderr, "import-answers", err)
 	}
 	cur := workshop.Current(revs, nil)
+	// The listing is printed once the rows are saved (or, with
+	// --dry-run, checked): printed before a save that was then refused,
+	// it listed rows as if saved above the refusal.
+	var listing strings.Builder
 	for _, row := range rows {
-		fmt.Fprintf(stdout, "row %d: %s, Q%d: Beta(%s, %s)%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
+		fmt.Fprintf(&listing, "row %d: %s, Q%d: Beta(%s, %s)%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
 			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit),
 			followsNote(row.Expert.Name, cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]))
 	}
@@ -121,7 +126,8 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 			return fail(stderr, "import-answers", answersheet.RefusalAtRow(err, ws.Round, rows))
 		}
 	}
-	fmt.Fprintf(stdout, "%s %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, countOf(len(rows), "judgement", "judgements"), ws.Round, wid, ch)
+	fmt.Fprintf(&listing, "%s %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, countOf(len(rows), "judgement", "judgements"), ws.Round, wid, ch)
+	io.WriteString(stdout, listing.String())
 	return exitOK
 }
 

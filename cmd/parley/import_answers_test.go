@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"crypto/sha256"
+	"database/sql"
 	"encoding/hex"
 	"encoding/json"
 	"os"
@@ -215,5 +216,24 @@ func TestImportAnswersSaysWhatARowFollows(t *testing.T) {
 	}
 	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run"); code != 0 || strings.Contains(out, "follows") {
 		t.Fatalf("after the facilitator's entry: %d %q %q", code, out, errOut)
+	}
+}
+
+// TestImportAnswersRefusedAtTheSavePrintsNoRows: a sheet whose rows pass
+// but whose save is refused (here by a trigger on the real SQLite file,
+// as a round closed in the server between the check and the save would
+// be) prints no rows on stdout, only the refusal; the rows were listed
+// first, as if saved, above it.
+func TestImportAnswersRefusedAtTheSavePrintsNoRows(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	sqlDB, err := sql.Open("sqlite3", path)
+	check(t, err)
+	_, err = sqlDB.Exec(`CREATE TRIGGER refuse_all BEFORE INSERT ON revisions BEGIN SELECT RAISE(ABORT, 'refused for the test'); END`)
+	check(t, err)
+	check(t, sqlDB.Close())
+	sheet := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n")
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", strconv.FormatInt(ws, 10), "--in", sheet)
+	if code == exitOK || out != "" || !strings.Contains(errOut, "refused for the test") {
+		t.Errorf("exit %d, stdout %q, stderr %q; want a failure and nothing on stdout", code, out, errOut)
 	}
 }
