@@ -19,7 +19,7 @@ import (
 )
 
 func init() {
-	command("calibrate", "score experts on calibration questions and weight them (--input FILE.csv, --alpha, --format)", runCalibrate)
+	command("calibrate", "score experts on calibration questions and weight them (--input FILE.csv, --alpha, --overshoot, --leave-one-out, --format)", runCalibrate)
 }
 
 func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int {

@@ -17,7 +17,7 @@ import (
 )
 
 func init() {
-	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run)", runImportAnswers)
+	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run, --channel)", runImportAnswers)
 }
 
 // runImportAnswers reads an answer sheet (answersheet.Read) against

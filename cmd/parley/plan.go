@@ -14,7 +14,7 @@ import (
 )
 
 func init() {
-	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence], [--length, --level, --criterion, --interval], --format)", runPlan)
+	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence], [--length, --level, --criterion, --interval, --woc-trim, --exhaustive], --format)", runPlan)
 }
 
 // curvePoints is how many numbers of trials the assurance curve has.
