@@ -762,3 +762,15 @@ func TestEmptyFlagValueIsRefused(t *testing.T) {
 		}
 	}
 }
+
+// TestFlagErrorsKeepTerminalCodesOut: a flag typed with control
+// characters (an escape sequence that would clear the terminal or set
+// its title) is shown quoted in the refusal, never raw.
+func TestFlagErrorsKeepTerminalCodesOut(t *testing.T) {
+	for _, arg := range []string{"--\x1b]0;evil\a", "---\x1b[2J"} {
+		code, _, errs := run("fit", arg)
+		if code != exitBadInput || strings.ContainsAny(errs, "\x1b\a") {
+			t.Errorf("%q: exit %d, stderr %q", arg, code, errs)
+		}
+	}
+}

@@ -10,6 +10,7 @@ import (
 	"regexp"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
@@ -76,7 +77,13 @@ var (
 func flagError(fs *flag.FlagSet, err error) error {
 	msg := err.Error()
 	if m := flagUndefined.FindStringSubmatch(msg); m != nil {
-		return badInput(m[1], "is not a flag of %s (%s -h lists its flags)", fs.Name(), fs.Name())
+		// The name is whatever was typed: shown quoted when it holds
+		// what a terminal would act on (an escape sequence).
+		name := input.Clip(m[1], 40)
+		if strings.IndexFunc(name, func(r rune) bool { return !unicode.IsPrint(r) }) >= 0 {
+			name = strconv.Quote(name)
+		}
+		return badInput(name, "is not a flag of %s (%s -h lists its flags)", fs.Name(), fs.Name())
 	}
 	if m := flagNoValue.FindStringSubmatch(msg); m != nil {
 		return badInput(m[1], "needs a value")
@@ -98,7 +105,10 @@ func flagError(fs *flag.FlagSet, err error) error {
 		}
 		return badInput(m[2], "%s, got %s", rule, m[1])
 	}
-	return fmt.Errorf("%w: %v", errBadInput, err)
+	if strings.IndexFunc(msg, func(r rune) bool { return !unicode.IsPrint(r) }) >= 0 {
+		msg = strconv.Quote(msg) // "bad flag syntax: ---" and what was typed after it
+	}
+	return fmt.Errorf("%w: %s", errBadInput, msg)
 }
 
 // strayArgument describes args[i], a word that is no flag nor a flag's
