@@ -226,6 +226,8 @@ func TestScriptingBadInput(t *testing.T) {
 		// A list typed with spaces: the flag whose list it is is named, not
 		// the rest of the list as a flag ("--0.5,: unexpected argument").
 		{"list with spaces", []string{"fit", "--probs", "0.05,", "0.5,", "0.95", "--values", "0.01,0.04,0.12"}, "", []string{`--probs: unexpected argument "0.5," after its value "0.05,"`, "in quotes"}},
+		{"list with spaces after =", []string{"fit", "--probs=0.05,", "0.5,", "0.95"}, "", []string{`--probs: unexpected argument "0.5," after its value "0.05,"`, "in quotes"}},
+		{"negative list with spaces", []string{"fit", "--values", "-0.5,", "0.5"}, "", []string{`--values: unexpected argument "0.5" after its value "-0.5,"`}},
 		{"fit probs decreasing", []string{"fit", "--probs", "0.5,0.25", "--values", "0.1,0.2"}, "", []string{"probs[1]", string(elicit.RuleProbIncreasing)}},
 		{"fit values outside", []string{"fit", "--probs", "0.25,0.5", "--values", "0.1,1.2"}, "", []string{"values[1]", string(elicit.RuleValueInBounds)}},
 		{"fit lengths", []string{"fit", "--probs", "0.25,0.5", "--values", "0.1"}, "", []string{"values", string(elicit.RuleLengthMatch)}},

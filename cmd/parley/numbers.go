@@ -118,10 +118,15 @@ func flagError(fs *flag.FlagSet, err error) error {
 // argument".
 func strayArgument(args []string, i int) error {
 	stray := input.Clip(args[i], 24)
-	if i >= 2 && strings.HasPrefix(args[i-2], "-") && !strings.Contains(args[i-2], "=") {
-		name := strings.TrimLeft(args[i-2], "-")
+	name, value, ok := "", "", false
+	if i >= 1 && strings.HasPrefix(args[i-1], "-") && strings.Contains(args[i-1], "=") {
+		name, value, ok = strings.Cut(strings.TrimLeft(args[i-1], "-"), "=") // --probs=0.05, 0.5
+	} else if i >= 2 && strings.HasPrefix(args[i-2], "-") && !strings.Contains(args[i-2], "=") {
+		name, value, ok = strings.TrimLeft(args[i-2], "-"), args[i-1], true
+	}
+	if ok && name != "" && strings.IndexFunc(name, func(r rune) bool { return !unicode.IsPrint(r) }) < 0 {
 		return badInput(name, "unexpected argument %q after its value %q: every input is a --flag with one value; "+
-			"put a list with spaces in quotes (\"0.05, 0.5, 0.95\") or leave the spaces out", stray, input.Clip(args[i-1], 24))
+			"put a list with spaces in quotes (\"0.05, 0.5, 0.95\") or leave the spaces out", stray, input.Clip(value, 24))
 	}
 	return fmt.Errorf("%w: unexpected argument %q (every input is a --flag with its value, such as --format json)", errBadInput, stray)
 }
