@@ -678,6 +678,9 @@ func TestStoreCommandsRefuseAFileThatIsNoDatabase(t *testing.T) {
 // the work; they exited 1 after it, "store: backup to …: unable to open
 // database" and "open /proc/.new.db.importing-…", a name nobody typed.
 func TestNewFileWhereNoneCanBeMade(t *testing.T) {
+	if fi, err := os.Stat("/proc"); err != nil || !fi.IsDir() {
+		t.Skip("no /proc folder here")
+	}
 	if f, err := os.CreateTemp("/proc", "parley-*"); err == nil {
 		f.Close()
 		os.Remove(f.Name())
