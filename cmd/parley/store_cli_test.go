@@ -705,3 +705,29 @@ func TestNewFileWhereNoneCanBeMade(t *testing.T) {
 		}
 	}
 }
+
+// TestImportOfARecordWithoutItsWorkshop: a record with no "workshop"
+// object is refused saying the workshop is required; it said
+// "workshop.id: must be greater than 0 (got 0)", of an id nobody wrote.
+func TestImportOfARecordWithoutItsWorkshop(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	var rec map[string]json.RawMessage
+	code, out, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10))
+	if code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	check(t, json.Unmarshal([]byte(out), &rec))
+	delete(rec, "workshop")
+	b, err := json.Marshal(rec)
+	check(t, err)
+	in := filepath.Join(t.TempDir(), "record.json")
+	check(t, os.WriteFile(in, b, 0o644))
+	newDB := filepath.Join(t.TempDir(), "new.db")
+	code, out, errs = run("import", "--db", newDB, "--in", in)
+	if code != exitBadInput || out != "" || !strings.Contains(errs, "workshop: "+string(elicit.RuleRequired)) {
+		t.Errorf("exit %d, stdout %q, stderr %q; want 2 saying the workshop is required", code, out, errs)
+	}
+	if _, err := os.Stat(newDB); !os.IsNotExist(err) {
+		t.Error("a refused import created the database")
+	}
+}

@@ -447,6 +447,11 @@ func relDiff(a, b float64) float64 {
 }
 
 func checkWorkshop(w workshop.Workshop) error {
+	if w.ID == 0 && w.Created.IsZero() && w.Title == "" && w.Round == 0 {
+		// No "workshop" object at all: said so, not "workshop.id: must
+		// be greater than 0 (got 0)", an id nobody wrote.
+		return inputErr("workshop", elicit.RuleRequired, "the record has no workshop (its id, title, round and created)")
+	}
 	if err := input.CheckID("workshop.id", w.ID); err != nil {
 		return err
 	}
