@@ -247,7 +247,8 @@ func (c Construction) DescribeIn(f Figures) string {
 	case MethodUniform:
 		return "uniform" + scale + ", Beta(1, 1): every value equally likely"
 	case MethodEquivalentSample:
-		return fmt.Sprintf("equivalent prior sample: %s successes in %s imagined trials, Beta(s, n − s) = Beta(%s, %s)", f.typed(in.Successes), f.typed(in.Trials), f.Shape(c.Dist.Alpha), f.Shape(c.Dist.Beta.Beta))
+		return fmt.Sprintf("equivalent prior sample: %s %s in %s imagined %s, Beta(s, n − s) = Beta(%s, %s)", f.typed(in.Successes), nounFor(in.Successes, "success", "successes"),
+			f.typed(in.Trials), nounFor(in.Trials, "trial", "trials"), f.Shape(c.Dist.Alpha), f.Shape(c.Dist.Beta.Beta))
 	case MethodMeanSD:
 		return fmt.Sprintf("mean %s and standard deviation %s%s by the method of moments", f.typed(in.Mean), f.typed(in.SD), scale)
 	case MethodIntervalMoments:

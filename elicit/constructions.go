@@ -57,7 +57,7 @@ func EquivalentSample(s, n float64) (Beta, error) {
 		return Beta{}, err
 	}
 	if !(s < n) {
-		return Beta{}, inputErr("successes", RuleBelowTrials, "%v successes in %v trials", s, n)
+		return Beta{}, inputErr("successes", RuleBelowTrials, "%v %s in %v %s", s, nounFor(s, "success", "successes"), n, nounFor(n, "trial", "trials"))
 	}
 	d := Beta{Alpha: s, Beta: n - s}
 	// The limits hold α = s and β = n − s each, as every construction's
@@ -339,4 +339,13 @@ func CheckEdges(field string, edges []float64) error {
 	}
 	// The inner edges are the points the fit uses, as stated values are.
 	return checkValues(field, edges[1:last], edges[0], edges[last], 1)
+}
+
+// nounFor is one when x is exactly 1 ("1 success in 2 trials"), else
+// many ("0.5 successes", "1.5 trials").
+func nounFor(x float64, one, many string) string {
+	if x == 1 {
+		return one
+	}
+	return many
 }

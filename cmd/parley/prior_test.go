@@ -387,3 +387,25 @@ func TestPriorWorthSplitsAsTheBetaIsPrinted(t *testing.T) {
 		}
 	}
 }
+
+// TestPriorSampleOfOneSaysSuccess: one imagined success, or one
+// imagined trial, is said in the singular, in the description (the
+// record's source column and the quick priors page read it) and in a
+// refusal; they said "1 successes in 2 imagined trials" and "(1
+// successes in 1 trials)".
+func TestPriorSampleOfOneSaysSuccess(t *testing.T) {
+	for _, c := range []struct {
+		args []string
+		code int
+		want string
+	}{
+		{[]string{"prior", "--successes", "1", "--trials", "2"}, exitOK, "equivalent prior sample: 1 success in 2 imagined trials,"},
+		{[]string{"prior", "--successes", "0.5", "--trials", "1"}, exitOK, "equivalent prior sample: 0.5 successes in 1 imagined trial,"},
+		{[]string{"prior", "--successes", "1", "--trials", "1"}, exitBadInput, "(1 success in 1 trial)"},
+	} {
+		code, out, errs := run(c.args...)
+		if code != c.code || !strings.Contains(out+errs, c.want) {
+			t.Errorf("%v: exit %d, %q %q; want %q", c.args, code, out, errs, c.want)
+		}
+	}
+}
