@@ -293,3 +293,29 @@ func TestDate(t *testing.T) {
 		}
 	}
 }
+
+// Typed writes a number whose plain decimals would run long with an
+// exponent, and Number reads it back: `parley update --level 1e-300`
+// printed the level as 0. and 299 zeros before its 1.
+func TestTypedWritesALongNumberWithAnExponent(t *testing.T) {
+	for _, c := range []struct {
+		v       float64
+		percent bool
+		want    string
+	}{
+		{1e-300, false, "1e-300"}, {1e-300, true, "1e-298"}, {1.5e21, false, "1.5e21"}, {2.5e-7, false, "0.00000025"},
+		{0.07, true, "7"}, {123456.789, false, "123456.789"}, {1e-22, false, "1e-22"}, {-3.25e-30, false, "-3.25e-30"},
+	} {
+		got := Typed(c.v, c.percent)
+		if got != c.want {
+			t.Errorf("Typed(%g, %v) = %q, want %q", c.v, c.percent, got, c.want)
+		}
+		back := c.v
+		if c.percent {
+			back *= 100
+		}
+		if v, err := Number("x", got); err != nil || math.Abs(v-back) > 1e-12*math.Abs(back) {
+			t.Errorf("Number(%q) = %v, %v; want %g back", got, v, err, back)
+		}
+	}
+}

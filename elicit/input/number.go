@@ -178,7 +178,11 @@ func Numbers(field, raw string) ([]float64, error) {
 // percentage (v·100) when percent, in plain decimal notation, rounded to
 // 12 significant digits so the binary noise of the conversion does not
 // show (0.07·100 is 7, not 7.000000000000001). Number reads it back to
-// the same value within that rounding.
+// the same value within that rounding. A number whose plain decimals
+// would run past typedPlainMax characters is written with an exponent,
+// as it was most likely typed: 1e-300, not a 0 and a point followed by
+// 299 zeros, a line that ran off the screen (`parley update --level
+// 1e-300`), and 1.5e21, not 22 digits.
 func Typed(v float64, percent bool) string {
 	if percent {
 		v *= 100
@@ -186,5 +190,17 @@ func Typed(v float64, percent bool) string {
 	if p, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64); err == nil {
 		v = p
 	}
-	return strconv.FormatFloat(v, 'f', -1, 64)
+	s := strconv.FormatFloat(v, 'f', -1, 64)
+	if len(s) <= typedPlainMax {
+		return s
+	}
+	s = strconv.FormatFloat(v, 'g', -1, 64)
+	if mant, exp, ok := strings.Cut(s, "e"); ok {
+		s = mant + "e" + strings.TrimPrefix(strings.Replace(exp, "-0", "-", 1), "+")
+		s = strings.Replace(s, "e0", "e", 1)
+	}
+	return s
 }
+
+// typedPlainMax is the longest number Typed writes in plain decimals.
+const typedPlainMax = 20
