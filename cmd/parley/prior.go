@@ -70,7 +70,7 @@ func runPrior(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&a.mean, "mean", "", "method of moments: the mean, with --sd")
 	fs.StringVar(&a.sd, "sd", "", "method of moments: the standard deviation (sd² < (mean - lower)(upper - mean))")
 	fs.StringVar(&a.interval, "interval", "", "central interval: low,high, with --coverage")
-	fs.StringVar(&a.coverage, "coverage", "", "central interval: the probability it holds, strictly between 0 and 1")
+	fs.StringVar(&a.coverage, "coverage", "", "central interval: the probability it holds, strictly between 0 and 1 (0.9, or 90%)")
 	fs.StringVar(&a.method, "method", "quantiles", "central interval: quantiles (exact match) or moments (normal approximation)")
 	fs.StringVar(&a.lower, "lower", "0", "lower bound of the quantity")
 	fs.StringVar(&a.upper, "upper", "1", "upper bound of the quantity")
@@ -192,7 +192,14 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 			return priorOutput{}, badInput("interval", "needs two numbers, low,high; got %d", len(ends))
 		}
 		in.Low, in.High = ends[0], ends[1]
-		if in.Coverage, err = number("coverage", a.coverage); err != nil {
+		// A fraction (0.9), or a percentage with its sign (90%), as the
+		// quick priors page takes it; a plain 90 stays refused.
+		if rest, ok := strings.CutSuffix(strings.TrimSpace(a.coverage), "%"); ok {
+			in.Coverage, err = input.Percent("coverage", rest)
+		} else {
+			in.Coverage, err = number("coverage", a.coverage)
+		}
+		if err != nil {
 			return priorOutput{}, err
 		}
 	}

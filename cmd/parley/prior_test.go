@@ -146,7 +146,8 @@ func TestPriorBadInput(t *testing.T) {
 		{"interval too wide for moments", with(iv[:1], "--interval", "0.01,0.99", "--coverage", "0.5", "--method", "moments"), []string{"interval", string(elicit.RuleVarianceFeasible)}},
 		{"coverage alone", []string{"prior", "--coverage", "0.9"}, []string{"--interval", "is required with --coverage"}},
 		{"coverage percent", []string{"prior", "--interval", "0.03,0.12", "--coverage", "90"}, []string{"coverage", string(elicit.RuleProbOpen)}},
-		{"coverage percent sign", []string{"prior", "--interval", "0.03,0.12", "--coverage", "90%"}, []string{"coverage", "plain decimal"}},
+		{"coverage percent sign beyond", []string{"prior", "--interval", "0.03,0.12", "--coverage", "100%"}, []string{"coverage", string(elicit.RuleProbOpen)}},
+		{"coverage percent sign syntax", []string{"prior", "--interval", "0.03,0.12", "--coverage", "ninety%"}, []string{"coverage", "plain decimal"}},
 		{"method unknown", with(iv, "--method", "median"), []string{"--method", "quantiles or moments"}},
 		{"method without interval", []string{"prior", "--mean", "0.1", "--sd", "0.05", "--method", "moments"}, []string{"--method", "applies only to --interval"}},
 		{"bounds reversed", []string{"prior", "--uniform", "--lower", "5", "--upper", "1"}, []string{"lower", string(elicit.RuleBoundsOrder)}},
@@ -407,5 +408,21 @@ func TestPriorSampleOfOneSaysSuccess(t *testing.T) {
 		if code != c.code || !strings.Contains(out+errs, c.want) {
 			t.Errorf("%v: exit %d, %q %q; want %q", c.args, code, out, errs, c.want)
 		}
+	}
+}
+
+// --coverage takes a percentage with its sign, as the quick priors page
+// does: 90% is 0.9, the same Beta; it was refused as not a plain decimal.
+func TestPriorCoverageTakesAPercentSign(t *testing.T) {
+	code, plain, errs := runCLI(t, "", "prior", "--interval", "0.03,0.12", "--coverage", "0.9", "--format", "json")
+	if code != exitOK {
+		t.Fatalf("--coverage 0.9: exit %d, %s", code, errs)
+	}
+	code, pct, errs := runCLI(t, "", "prior", "--interval", "0.03,0.12", "--coverage", "90%", "--format", "json")
+	if code != exitOK {
+		t.Fatalf("--coverage 90%%: exit %d, %s", code, errs)
+	}
+	if pct != plain {
+		t.Errorf("--coverage 90%% gives\n%s\nwhere 0.9 gives\n%s", pct, plain)
 	}
 }
