@@ -845,3 +845,20 @@ func TestAnExactFitsGapReadsAsNone(t *testing.T) {
 		}
 	}
 }
+
+// The upload page says what file to save before one is refused: a
+// spreadsheet in a decimal-comma locale saves semicolons and decimal
+// commas, and its plain CSV is often not UTF-8; each is refused, and the
+// page said nothing of them until then.
+func TestSheetPageSaysWhatFileToSave(t *testing.T) {
+	g := newSheetRig(t)
+	r, body := g.h.get(sheetPath(g.ws.ID))
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("upload page: %d", r.StatusCode)
+	}
+	for _, want := range []string{"<strong>CSV UTF-8</strong>", "commas between the columns and a point for decimals (0.05, not 0,05)", "as a percentage (5%)"} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the upload page does not say %q", want)
+		}
+	}
+}
