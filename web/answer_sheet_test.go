@@ -165,6 +165,17 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 			t.Errorf("%q: %+v %v", sheet, rows, err)
 		}
 	}
+	// Decimals written with a comma, unquoted, spill past the header: the
+	// refusal says that is what they likely are.
+	var ie *elicit.InputError
+	_, err = answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0,02,0,06,0,15\n"), g.qs, g.experts)
+	if !errors.As(err, &ie) || ie.Field != "row 2, column 6" || ie.Rule != answersheet.RuleExtra || !strings.Contains(ie.Detail, "decimal comma: write 0.06, not 0,06") {
+		t.Errorf("decimal commas: %v", err)
+	}
+	_, err = answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15,from the logs\n"), g.qs, g.experts)
+	if !errors.As(err, &ie) || ie.Rule != answersheet.RuleExtra || strings.Contains(ie.Detail, "decimal comma") {
+		t.Errorf("a reason beyond the header: %v", err)
+	}
 	// Lines ended by a carriage return alone, as a spreadsheet's "CSV
 	// (Macintosh)" writes them, were read as one row.
 	if rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\r,,,,\rAda Quell,Q1,0.02,0.06,0.15\r\"Bruno Ferrante\",Q1,0.01,0.03,0.08\r"), g.qs, g.experts); err != nil || len(rows) != 2 || rows[1].Line != 4 || rows[1].Answer.Values[2] != 0.08 {
@@ -176,7 +187,6 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 		t.Errorf("a comment with a semicolon above the header: %+v %v", rows, err)
 	}
 	// Only empty rows: no rows.
-	var ie *elicit.InputError
 	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
 		t.Errorf("a sheet of empty rows: %v", err)
 	}

@@ -211,7 +211,13 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 			if i >= named {
 				// Never dropped in silence: a reason without a
 				// column, or a decimal comma that split a value.
-				return nil, rowErr(line, strconv.Itoa(i+1), RuleExtra, "the header names %d columns; this row has %s in column %d", named, shownCell(c), i+1)
+				hint := ""
+				if strings.Trim(strings.TrimSpace(c), "0123456789%") == "" {
+					// Digits alone: most likely the decimals of a number
+					// written with a decimal comma.
+					hint = ", perhaps the decimals of a number written with a decimal comma: write 0.06, not 0,06"
+				}
+				return nil, rowErr(line, strconv.Itoa(i+1), RuleExtra, "the header names %d columns; this row has %s in column %d%s", named, shownCell(c), i+1, hint)
 			}
 			if strings.TrimSpace(header[i]) == "" {
 				return nil, rowErr(line, strconv.Itoa(i+1), RuleUnnamed, "this row has %s in column %d", shownCell(c), i+1)
