@@ -50,6 +50,7 @@ const (
 	RuleChanged    elicit.Rule = "names a question corrected after the sheet was read: send the sheet again"
 	RuleExtra      elicit.Rule = "is beyond the columns the header names"
 	RuleUnnamed    elicit.Rule = "is under a column the header leaves without a name"
+	RuleRows       elicit.Rule = "the sheet must have at most 10000 rows (a panel of 200 experts answering 50 questions): split it into sheets"
 	RuleUTF8       elicit.Rule = "the sheet must be saved as UTF-8 (in a spreadsheet program: CSV UTF-8)"
 	RuleCommas     elicit.Rule = "must separate its columns with commas: save it as CSV (comma-separated), with a point for decimals"
 	RuleTwoExperts elicit.Rule = "names more than one active expert: name each by id:N"
@@ -133,6 +134,12 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 				return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep.name}
 			}
 		}
+	}
+	// Counted before any row is read and fitted: a sheet of 10,001 rows
+	// was refused at its last, after two seconds fitting the others, as
+	// "row 10002, column ?: count out of range".
+	if n := countRows(body); n > maxRows {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleRows, Detail: fmt.Sprintf("it has %d rows", n)}
 	}
 	header, err := cr.Read()
 	if errors.Is(err, io.EOF) {
@@ -226,9 +233,6 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		}
 		if blank {
 			continue
-		}
-		if len(rows) == maxRows {
-			return nil, rowErr(line, "?", elicit.RuleCountRange, "at most %d rows", maxRows)
 		}
 		cell := func(name string) string {
 			if i, ok := col[name]; ok && i < len(rec) {
@@ -534,4 +538,27 @@ func inUTF8(line int, rec, header []string) error {
 		return rowErr(line, column, RuleUTF8, "%s is in another encoding, such as Windows-1252", shownCell(c))
 	}
 	return nil
+}
+
+// countRows counts the rows of answers in a sheet: its records after the
+// header, less the rows of empty cells. A sheet that is not CSV counts
+// the rows before the break, which the read then refuses.
+func countRows(body []byte) int {
+	cr := csv.NewReader(bytes.NewReader(body))
+	cr.Comment = '#'
+	cr.FieldsPerRecord = -1
+	cr.ReuseRecord = true
+	n := -1 // the header
+	for {
+		rec, err := cr.Read()
+		if err != nil {
+			return max(n, 0)
+		}
+		for _, c := range rec {
+			if strings.TrimSpace(c) != "" {
+				n++
+				break
+			}
+		}
+	}
 }

@@ -1,0 +1,70 @@
+package answersheet
+
+import (
+	"errors"
+	"fmt"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// largePanel is an invented panel at the sheet's limit: 200 experts
+// and 50 quantile questions of a share, and a sheet of rows of their
+// answers, the first n of the 10,000 pairs.
+func largePanel(n int) ([]workshop.Question, []workshop.Expert, string) {
+	qs := make([]workshop.Question, 50)
+	for i := range qs {
+		qs[i] = workshop.Question{ID: int64(100 + i), Position: i + 1, Wording: fmt.Sprintf("Invented question %d: share blocked?", i+1),
+			Quantity: "blocked share", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	}
+	es := make([]workshop.Expert, 200)
+	for i := range es {
+		es[i] = workshop.Expert{ID: int64(1000 + i), Name: fmt.Sprintf("Expert %d (invented)", i+1)}
+	}
+	var b strings.Builder
+	b.WriteString("expert,question,q05,q50,q95,reason\n")
+	for k := range n {
+		ei, qi := k/50%200, k%50
+		m := 0.1 + 0.6*float64((ei*7+qi*3)%20)/20
+		fmt.Fprintf(&b, "%s,Q%d,%.4f,%.4f,%.4f,Invented: inspection logs.\n", es[ei].Name, qi+1, m*0.5, m, m+(1-m)*0.4)
+	}
+	return qs, es, b.String()
+}
+
+// A sheet of more rows than the limit is refused as a whole, before any
+// row is read: its second row, naming nobody, is not what is said. It
+// was refused at its 10,001st row, after every row before it was fitted.
+func TestTooManyRowsAreRefusedFirst(t *testing.T) {
+	qs, es, sheet := largePanel(maxRows + 1)
+	sheet = strings.Replace(sheet, "Expert 1 (invented),Q1,", "Nobody (invented),Q1,", 1)
+	_, err := Read(strings.NewReader(sheet), qs, es)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "sheet" || ie.Rule != RuleRows || ie.Detail != "it has 10001 rows" {
+		t.Fatalf("got %v, want sheet: %s (it has 10001 rows)", err, RuleRows)
+	}
+	// At the limit, rows of empty cells and comments do not count: the
+	// sheet is read, and refused at its second row.
+	qs, es, sheet = largePanel(maxRows)
+	sheet = strings.Replace(sheet, "Expert 1 (invented),Q1,", "Nobody (invented),Q1,", 1) + ",,,,,\n# invented\n,,,,,\n"
+	if _, err := Read(strings.NewReader(sheet), qs, es); !errors.As(err, &ie) || ie.Field != "row 2, column expert" {
+		t.Fatalf("a sheet at the limit: %v, want row 2, column expert", err)
+	}
+}
+
+// BenchmarkReadLargestSheet reads a sheet at the limit, 10,000 rows, each
+// fitted: the time and memory a facilitator's largest upload costs.
+//
+//	go test ./elicit/answersheet -run '^$' -bench LargestSheet -benchtime 3x -benchmem
+func BenchmarkReadLargestSheet(b *testing.B) {
+	qs, es, sheet := largePanel(maxRows)
+	b.SetBytes(int64(len(sheet)))
+	b.ReportAllocs()
+	for b.Loop() {
+		rows, err := Read(strings.NewReader(sheet), qs, es)
+		if err != nil || len(rows) != maxRows {
+			b.Fatalf("%d rows, %v", len(rows), err)
+		}
+	}
+}
