@@ -276,6 +276,8 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		{"a reason in Windows-1252", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,,,,,caf\xe9 logs\n", "row 3, column reason", answersheet.RuleUTF8},
 		{"a sheet in UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00\n\x00", "sheet", answersheet.RuleUTF8},
 		{"an unknown header", "expert,question,q05,q50,q95,colour\n" + good, `row 1, column "colour"`, answersheet.RuleHeader},
+		// Named at its row as a spreadsheet numbers it, below comments.
+		{"an unknown header below comments", "# Sent by Ada (invented)\n# by phone\nexpert,question,q05,q50,q95,colour\n" + good, `row 3, column "colour"`, answersheet.RuleHeader},
 		// A quote mark inside a cell of a sheet typed by hand (12" for
 		// inches) is not CSV: the read of such a row panicked (the
 		// reader's FieldPos asked of a row it had not returned), a 500 on

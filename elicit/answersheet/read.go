@@ -148,7 +148,10 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	if err != nil {
 		return nil, notCSV(body, err, 0, nil)
 	}
-	if err := inUTF8(1, header, header); err != nil {
+	// The header's row as a spreadsheet numbers it: comment lines above
+	// it are rows too.
+	headerRow, _ := cr.FieldPos(0)
+	if err := inUTF8(headerRow, header, nil); err != nil {
 		return nil, err
 	}
 	known := map[string]bool{"expert": true, "question": true, "reason": true}
@@ -170,16 +173,16 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		}
 		named = i + 1
 		if !known[h] {
-			return nil, rowErr(1, shownCell(h), RuleHeader, "no question of this workshop has a column %s", shownCell(h))
+			return nil, rowErr(headerRow, shownCell(h), RuleHeader, "no question of this workshop has a column %s", shownCell(h))
 		}
 		if _, dup := col[h]; dup {
-			return nil, rowErr(1, shownCell(h), RuleHeader, "the column appears twice")
+			return nil, rowErr(headerRow, shownCell(h), RuleHeader, "the column appears twice")
 		}
 		col[h] = i
 	}
 	for _, need := range []string{"expert", "question"} {
 		if _, ok := col[need]; !ok {
-			return nil, rowErr(1, need, RuleHeader, "missing")
+			return nil, rowErr(headerRow, need, RuleHeader, "missing")
 		}
 	}
 	var rows []Row
@@ -532,7 +535,7 @@ func inUTF8(line int, rec, header []string) error {
 			continue
 		}
 		column := strconv.Itoa(i + 1)
-		if i < len(header) && line > 1 && strings.TrimSpace(header[i]) != "" && utf8.ValidString(header[i]) {
+		if i < len(header) && strings.TrimSpace(header[i]) != "" && utf8.ValidString(header[i]) {
 			column = strings.ToLower(strings.TrimSpace(header[i]))
 		}
 		return rowErr(line, column, RuleUTF8, "%s is in another encoding, such as Windows-1252", shownCell(c))
