@@ -874,3 +874,44 @@ func TestSheetPageSaysWhatFileToSave(t *testing.T) {
 		}
 	}
 }
+
+// An answer the expert saves between the sheet's preview and its
+// confirmation is not put behind the sheet's row in silence: the
+// confirmation saves nothing and shows the preview again, the row now
+// following the expert's own answer, under a new key. Confirmed, the
+// row became the expert's current answer over the one they had just
+// saved, which the preview had never shown.
+func TestSheetConfirmMeetsAnAnswerSavedMeanwhile(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\nBruno Ferrante,Q1,0.01,0.03,0.08\n"
+	r, body := g.h.post(sheetPath(g.ws.ID), url.Values{"sheet": {sheet}, "channel": {"paper_form"}})
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if r.StatusCode != http.StatusOK || key == nil || strings.Contains(body, "own answer") {
+		t.Fatalf("preview: %d, key %v", r.StatusCode, key)
+	}
+	own := workshop.Revision{QuestionID: g.qs[0].ID, ExpertID: g.experts[0].ID, Answer: workshop.Answer{Values: []float64{0.05, 0.1, 0.2}}}
+	if err := g.h.db.SaveRevision(context.Background(), &own); err != nil {
+		t.Fatal(err)
+	}
+	for _, k := range []string{key[1], key[1]} { // and sent again
+		r, body = g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {k}})
+		if r.StatusCode != http.StatusConflict || !strings.Contains(body, "Nothing was saved: an answer was saved since you checked the sheet.") ||
+			!strings.Contains(body, "Row 2: Ada Quell saved their own answer to Q1 at ") || strings.Contains(body, "Row 3") ||
+			!strings.Contains(body, html.EscapeString("Ada Quell's own answer of ")) {
+			t.Fatalf("confirmed after Ada's own answer: %d\n%s", r.StatusCode, body)
+		}
+		if revs := g.revisions(t); len(revs) != 1 {
+			t.Fatalf("%d revisions, want Ada's own only", len(revs))
+		}
+	}
+	again := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if again == nil || again[1] == key[1] {
+		t.Fatalf("the preview shown again has key %v, the first was %s", again, key[1])
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {again[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirming the preview as it now reads: %d", r.StatusCode)
+	}
+	if revs := g.revisions(t); len(revs) != 3 {
+		t.Fatalf("%d revisions, want Ada's own and the sheet's two", len(revs))
+	}
+}

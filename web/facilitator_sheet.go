@@ -2,6 +2,7 @@ package web
 
 import (
 	"errors"
+	"fmt"
 	"io"
 	"net/http"
 	"strings"
@@ -29,6 +30,10 @@ type keptSheet struct {
 	workshop int64
 	file     answersheet.File
 	channel  workshop.Channel
+	// follows is, for each row's expert and question, the revision the
+	// preview showed the row following (0 for none): the confirmation
+	// saves nothing when another has come since.
+	follows map[workshop.Key]int64
 }
 
 // sheetView is the upload page: the form, or the preview of a sheet.
@@ -44,6 +49,11 @@ type sheetView struct {
 	// Replaces holds, by row index, the current answer a row would
 	// follow as the expert's latest, when there is one.
 	Replaces map[int]workshop.Revision
+	// Meanwhile says which answers were saved between the preview and
+	// its confirmation, which saved nothing and shows the preview again.
+	Meanwhile []string
+	// file is the sheet the preview keeps for its confirmation.
+	file answersheet.File
 }
 
 // sheetRefusedSummary follows a refusal of the sheet's own content (a
@@ -228,7 +238,7 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	channel := workshop.Channel(f.Choice("channel", string(workshop.ChannelFile), channelNames()...))
-	v := sheetView{Workshop: ws, Form: f, Channel: channel}
+	v := sheetView{Workshop: ws, Form: f, Channel: channel, file: file}
 	if strings.TrimSpace(file.Text) == "" && f.OK() {
 		f.set("file", "choose a CSV file, or paste the sheet below")
 	}
@@ -246,27 +256,74 @@ func (s *Server) sheetPreview(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, http.StatusUnprocessableEntity, v)
 		return
 	}
-	key, err := s.sheets.keep(keptSheet{workshop: ws.ID, file: file, channel: channel}, s.now())
+	cur, err := s.currentAnswers(r, ws)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
+	s.showPreview(w, r, http.StatusOK, v, rows, cur)
+}
+
+// currentAnswers are the workshop's current revisions, by expert and
+// question.
+func (s *Server) currentAnswers(r *http.Request, ws workshop.Workshop) (map[workshop.Key]workshop.Revision, error) {
 	revs, err := s.store.Revisions(r.Context(), ws.ID)
 	if err != nil {
-		s.fail(w, r, err)
-		return
+		return nil, err
 	}
-	cur := workshop.Current(revs, nil)
+	return workshop.Current(revs, nil), nil
+}
+
+// showPreview keeps the sheet of v for its confirmation and shows its
+// rows, each with the current answer it would follow (cur).
+func (s *Server) showPreview(w http.ResponseWriter, r *http.Request, status int, v sheetView, rows []answersheet.Row, cur map[workshop.Key]workshop.Revision) {
+	follows := make(map[workshop.Key]int64, len(rows))
 	for i, row := range rows {
-		if rv, ok := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]; ok {
+		k := workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}
+		rv, ok := cur[k]
+		follows[k] = rv.ID
+		if ok {
 			if v.Replaces == nil {
 				v.Replaces = map[int]workshop.Revision{}
 			}
 			v.Replaces[i] = rv
 		}
 	}
+	key, err := s.sheets.keep(keptSheet{workshop: v.Workshop.ID, file: v.file, channel: v.Channel, follows: follows}, s.now())
+	if err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	v.Rows, v.Key = rows, key
-	s.renderSheet(w, r, http.StatusOK, v)
+	s.renderSheet(w, r, status, v)
+}
+
+// answeredMeanwhile says, for each row whose expert and question have a
+// current answer other than the one the preview showed it following,
+// who saved it and when: confirmed, the row would have put the sheet's
+// judgement after an answer the preview never showed, the expert's own
+// saved on their phone a moment before, without a word.
+func answeredMeanwhile(rows []answersheet.Row, follows map[workshop.Key]int64, cur map[workshop.Key]workshop.Revision) []string {
+	var out []string
+	for _, row := range rows {
+		k := workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}
+		rv := cur[k]
+		if was, ok := follows[k]; ok && was == rv.ID {
+			continue
+		}
+		who := row.Expert.Name + " saved their own answer"
+		if rv.EnteredBy == workshop.ByFacilitator {
+			who = "you entered " + row.Expert.Name + "'s answer"
+		}
+		if rv.ID == 0 {
+			// Read against the workshop as it now is, the row names
+			// another expert or question than the preview showed.
+			out = append(out, fmt.Sprintf("Row %d now reads as %s's answer to Q%d.", row.Line, row.Expert.Name, row.Question.Position))
+			continue
+		}
+		out = append(out, fmt.Sprintf("Row %d: %s to Q%d at %s.", row.Line, who, row.Question.Position, rv.At.UTC().Format(timeLayout)))
+	}
+	return out
 }
 
 // failSheet says a refusal of the sheet's content at the top of the
@@ -331,6 +388,21 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	}
 	rows, err := s.checkSheet(r, ws, sh.file.Text)
 	if err == nil {
+		var cur map[workshop.Key]workshop.Revision
+		if cur, err = s.currentAnswers(r, ws); err != nil {
+			s.sheets.untake(key)
+			s.fail(w, r, err)
+			return
+		}
+		if meanwhile := answeredMeanwhile(rows, sh.follows, cur); len(meanwhile) > 0 {
+			// Nothing is saved: the preview again, as it now reads,
+			// under a new key. The old one is given back, and shows
+			// this again if sent again (its preview stays out of date).
+			s.sheets.untake(key)
+			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file, Meanwhile: meanwhile}
+			s.showPreview(w, r, http.StatusConflict, v, rows, cur)
+			return
+		}
 		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel, sh.file)
 	}
 	if err != nil {
