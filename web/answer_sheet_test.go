@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"context"
 	"errors"
+	"fmt"
 	"html"
 	"mime/multipart"
 	"net/http"
@@ -216,7 +217,7 @@ func TestAnswerSheetNamesRowsAsASpreadsheetDoes(t *testing.T) {
 // says so (it said the name was on nobody's panel).
 func TestAnswerSheetNamesTwoExpertsOfOneName(t *testing.T) {
 	g := newSheetRig(t)
-	twin := workshop.Expert{WorkshopID: g.ws.ID, Name: "Ada  quell"}
+	twin := workshop.Expert{WorkshopID: g.ws.ID, Name: "Ada  quell", Affiliation: "Harbour Tanks Ltd (invented)"}
 	if err := g.h.db.AddExpert(context.Background(), &twin, []byte("sheet-twin")); err != nil {
 		t.Fatal(err)
 	}
@@ -225,6 +226,10 @@ func TestAnswerSheetNamesTwoExpertsOfOneName(t *testing.T) {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || ie.Field != "row 2, column expert" || ie.Rule != answersheet.RuleTwoExperts {
 		t.Fatalf("got %v, want row 2, column expert: %s", err, answersheet.RuleTwoExperts)
+	}
+	// With the ids to name them by, which no page shows.
+	if want := fmt.Sprintf(`"Ada Quell" is the name of id:%d (Ada Quell), id:%d (Ada  quell, Harbour Tanks Ltd (invented))`, g.experts[0].ID, twin.ID); ie.Detail != want {
+		t.Errorf("detail %q, want %q", ie.Detail, want)
 	}
 	rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nid:"+strconv.FormatInt(twin.ID, 10)+",Q1,0.02,0.06,0.15\n"), g.qs, experts)
 	if err != nil || rows[0].Expert.ID != twin.ID {

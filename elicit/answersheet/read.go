@@ -272,6 +272,11 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 			rule = RuleTwoExperts
 		}
 		detail := shownCell(cell("expert"))
+		if n > 1 {
+			// The ids to name them by, which no page shows: "name each
+			// by id:N" alone left the facilitator looking for N.
+			detail += " is the name of " + sameNamed(cell("expert"), experts)
+		}
 		if e, revoked := revokedExpert(cell("expert"), experts); n == 0 && revoked {
 			// Said as such: "names no active expert" left the
 			// facilitator looking for a misspelt name.
@@ -414,6 +419,27 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 		}
 	}
 	return found, n
+}
+
+// sameNamed lists the active experts of name s by id, each with its
+// name and affiliation as on the panel, at most five.
+func sameNamed(s string, experts []workshop.Expert) string {
+	var out []string
+	for _, e := range experts {
+		if e.Revoked || !workshop.SameName(e.Name, s) {
+			continue
+		}
+		if len(out) == 5 {
+			out = append(out, "…")
+			break
+		}
+		who := input.Clip(e.Name, 40)
+		if e.Affiliation != "" {
+			who += ", " + input.Clip(e.Affiliation, 40)
+		}
+		out = append(out, fmt.Sprintf("id:%d (%s)", e.ID, who))
+	}
+	return strings.Join(out, ", ")
 }
 
 // revokedExpert finds the expert a row names who is on the panel no
