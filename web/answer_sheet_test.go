@@ -187,6 +187,15 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if rows, err := answersheet.Read(strings.NewReader("# From Ada; by phone (invented)\nexpert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Line != 3 {
 		t.Errorf("a comment with a semicolon above the header: %+v %v", rows, err)
 	}
+	// A spreadsheet's "smart quotes" write O’Neil for the panel's
+	// O'Neil: the same name.
+	oneil := workshop.Expert{WorkshopID: g.ws.ID, Name: "Dara O'Neil (invented)"}
+	if err := g.h.db.AddExpert(context.Background(), &oneil, []byte("sheet-oneil")); err != nil {
+		t.Fatal(err)
+	}
+	if rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nDara O\u2019Neil (invented),Q1,0.02,0.06,0.15\n"), g.qs, append(append([]workshop.Expert(nil), g.experts...), oneil)); err != nil || rows[0].Expert.ID != oneil.ID {
+		t.Errorf("a name with a curly apostrophe: %+v %v", rows, err)
+	}
 	// Only empty rows: no rows.
 	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
 		t.Errorf("a sheet of empty rows: %v", err)

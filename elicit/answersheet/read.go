@@ -414,11 +414,22 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 	var found workshop.Expert
 	n := 0
 	for _, e := range experts {
-		if !e.Revoked && workshop.SameName(e.Name, s) {
+		if !e.Revoked && sameName(e.Name, s) {
 			found, n = e, n+1
 		}
 	}
 	return found, n
+}
+
+// apostrophes are the marks a spreadsheet may put for a typed ' (a
+// program's "smart quotes" write O’Neil).
+var apostrophes = strings.NewReplacer("\u2019", "'", "\u2018", "'", "\u02bc", "'")
+
+// sameName is workshop.SameName with apostrophes alike: a name typed
+// into a spreadsheet that writes O’Neil for O'Neil was refused as naming
+// no expert, quoted back as the name on the panel looks.
+func sameName(a, b string) bool {
+	return workshop.SameName(apostrophes.Replace(a), apostrophes.Replace(b))
 }
 
 // sameNamed lists the active experts of name s by id, each with its
@@ -426,7 +437,7 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 func sameNamed(s string, experts []workshop.Expert) string {
 	var out []string
 	for _, e := range experts {
-		if e.Revoked || !workshop.SameName(e.Name, s) {
+		if e.Revoked || !sameName(e.Name, s) {
 			continue
 		}
 		if len(out) == 5 {
@@ -450,7 +461,7 @@ func revokedExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) 
 	n := 0
 	id, byID := sheetID(s)
 	for _, e := range experts {
-		if e.Revoked && ((byID && e.ID == id) || (!byID && workshop.SameName(e.Name, s))) {
+		if e.Revoked && ((byID && e.ID == id) || (!byID && sameName(e.Name, s))) {
 			found, n = e, n+1
 		}
 	}
