@@ -77,6 +77,13 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if err != nil {
 		return fail(stderr, "import-answers", badInput("workshop", "no workshop %d in %s", wid, *dbPath))
 	}
+	if ws.Archived {
+		// Said before the sheet is read, as the upload page says it: an
+		// archived workshop's round is closed, and "round 3 is closed"
+		// sent the facilitator to open a round, which an archived
+		// workshop cannot until it is brought back.
+		return fail(stderr, "import-answers", badInput("workshop", "workshop %d is archived, so no judgements can be imported into it; bring it back from its overview page first", wid))
+	}
 	qs, err := db.Questions(ctx, wid)
 	if err != nil {
 		return fail(stderr, "import-answers", err)

@@ -120,8 +120,21 @@ func TestImportAnswersRefusals(t *testing.T) {
 	if code, _, errOut := run("import-answers", "--db", path, "--workshop", "999", "--in", writeSheet(t, good)); code != 2 || !strings.Contains(errOut, "--workshop") {
 		t.Errorf("unknown workshop: %d %q", code, errOut)
 	}
-	// A closed round refuses the sheet at its first row.
+	// An archived workshop says so: its round is closed too, but no
+	// round of it can be opened.
+	arch := workshop.Workshop{Title: "Archived (invented)", Invented: true}
 	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	check(t, db.CreateWorkshop(context.Background(), &arch))
+	check(t, db.SetArchived(context.Background(), arch.ID, true, "invented: finished"))
+	db.Close()
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", strconv.FormatInt(arch.ID, 10), "--in", writeSheet(t, good)); code != 2 || !strings.Contains(errOut, "--workshop") || !strings.Contains(errOut, "is archived") {
+		t.Errorf("archived workshop: %d %q", code, errOut)
+	}
+	// A closed round refuses the sheet at its first row.
+	db, err = store.Open(path)
 	if err != nil {
 		t.Fatal(err)
 	}
