@@ -1,8 +1,10 @@
 package answersheet
 
 import (
+	"bytes"
 	"errors"
 	"fmt"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -67,4 +69,46 @@ func BenchmarkReadLargestSheet(b *testing.B) {
 			b.Fatalf("%d rows, %v", len(rows), err)
 		}
 	}
+}
+
+// FuzzReadAnswerSheet: whatever the bytes, Read neither panics nor
+// refuses without naming where, the sheet or a row and column. A quote
+// mark inside a cell panicked (the CSV reader's FieldPos asked of a row
+// it had refused).
+//
+//	go test -fuzz FuzzReadAnswerSheet -fuzztime 60s ./elicit/answersheet/
+func FuzzReadAnswerSheet(f *testing.F) {
+	qs, es, sheet := largePanel(3)
+	qs = append(qs,
+		workshop.Question{ID: 900, Position: 51, Wording: "Invented: share coated?", Quantity: "coated share", Lower: 0, Upper: 1, Format: workshop.FormatInterval},
+		workshop.Question{ID: 901, Position: 52, Wording: "Invented: share clogged?", Quantity: "clogged share", Lower: 0, Upper: 1, Format: workshop.FormatChips,
+			BinEdges: []float64{0, 0.1, 0.5, 1}, Chips: 10},
+		workshop.Question{ID: 902, Position: 53, Wording: "Invented: retired", Quantity: "x", Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault, Retired: true})
+	es = append(es, workshop.Expert{ID: 5000, Name: "Expert 1 (Invented)"}, workshop.Expert{ID: 5001, Name: "Gone (invented)", Revoked: true})
+	for _, s := range []string{
+		sheet,
+		"\ufeff\"expert\",\"question\",\"lowest\",\"highest\",\"best\",\"confidence\",,\r\nid:1000,Q51,5%,30%,12%,80,,\r\n",
+		"expert,question,bin1,bin2,bin3,reason\rExpert 2 (invented),52,3,5,2,\"a\r\nb\"\r",
+		"expert;question;q05\n\"a\";\"b\"\n",
+		"expert,question,q05,q50,q95,reason\nExpert 2 (invented),Q1,0.1,0.2,0.3,12\" pipes\n",
+		"# c\nexpert,,question,q05,q50,q95\nGone (invented),,Q53,0,02,0,06\n",
+		"\xff\xfee\x00",
+		"expert,question,q05,q50,q95\nExpert 1 (invented),Q1,0.1,0.2,0.3\n",
+	} {
+		f.Add([]byte(s))
+	}
+	field := regexp.MustCompile(`^(sheet|row [1-9]\d*, column .+)$`)
+	f.Fuzz(func(t *testing.T, b []byte) {
+		rows, err := Read(bytes.NewReader(b), qs, es)
+		if err == nil {
+			if len(rows) == 0 {
+				t.Fatal("no rows and no refusal")
+			}
+			return
+		}
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || !field.MatchString(ie.Field) {
+			t.Fatalf("refused with %#v", err)
+		}
+	})
 }
