@@ -17,6 +17,7 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -927,5 +928,46 @@ func TestSheetConfirmMeetsAnAnswerSavedMeanwhile(t *testing.T) {
 	}
 	if revs := g.revisions(t); len(revs) != 3 {
 		t.Fatalf("%d revisions, want Ada's own and the sheet's two", len(revs))
+	}
+}
+
+// A file whose name the record cannot carry (an invisible text-direction
+// override, U+202E) is refused beside the file field, through the upload
+// and parley import-answers' --in alike, and nothing is saved: it was
+// saved, and the workshop's exported record was then refused by its own
+// import ("revisions[0].sheet.file: must be plain text").
+func TestSheetFileNameTheRecordCanCarry(t *testing.T) {
+	g := newSheetRig(t)
+	upload := func(name string) (*http.Response, string) {
+		var buf bytes.Buffer
+		mw := multipart.NewWriter(&buf)
+		fw, _ := mw.CreateFormFile("file", name)
+		fw.Write([]byte("expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"))
+		mw.WriteField("channel", "message")
+		mw.Close()
+		req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
+		req.Header.Set("Content-Type", mw.FormDataContentType())
+		req.Header.Set("Origin", g.h.ts.URL)
+		return g.h.do(req)
+	}
+	r, body := upload("answers\u202evsc.csv")
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "the file&#39;s name must be plain text") || !strings.Contains(body, "U+202E") || strings.Contains(body, `name="key"`) {
+		t.Errorf("a name with a text-direction override: %d\n%s", r.StatusCode, body)
+	}
+	if n := len(g.revisions(t)); n != 0 {
+		t.Fatalf("%d revisions saved", n)
+	}
+	// A name in any letters is kept, and the record imports back.
+	r, body = upload("réponses Ω 答案.csv")
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if r.StatusCode != http.StatusOK || key == nil {
+		t.Fatalf("a name in other letters: %d", r.StatusCode)
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	_, rec := g.h.get(workshopPath(g.ws.ID) + "/export.json")
+	if _, err := record.ParseChecked(strings.NewReader(rec)); err != nil || !strings.Contains(rec, "réponses Ω 答案.csv") {
+		t.Errorf("the record of a sheet named in other letters: %v", err)
 	}
 }

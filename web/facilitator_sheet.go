@@ -216,6 +216,11 @@ func readSheetUpload(w http.ResponseWriter, r *http.Request) (*Form, answersheet
 					f.set("file", string(input.RuleTooLong)+" (at most 1 MiB, 1,048,576 bytes); nothing was saved")
 				} else if strings.TrimSpace(string(b)) != "" {
 					text, name = string(b), files[0].Filename
+					if nerr := (answersheet.File{Name: name}).CheckName(); nerr != nil {
+						var ie *elicit.InputError
+						errors.As(nerr, &ie)
+						f.set("file", "the file's name "+string(ie.Rule)+detailSuffix(ie.Detail)+"; rename the file and choose it again")
+					}
 				}
 			}
 			if err != nil {

@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"errors"
 	"fmt"
 	"io"
 	"os"
@@ -100,6 +101,10 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	file := answersheet.File{Text: string(text)}
 	if *in != "-" {
 		file.Name = filepath.Base(*in)
+		var ie *elicit.InputError
+		if err := file.CheckName(); errors.As(err, &ie) {
+			return fail(stderr, "import-answers", badInput("in", "the file's name %s (%s); rename the file", ie.Rule, ie.Detail))
+		}
 	}
 	rows, err := answersheet.Read(bytes.NewReader(text), qs, es)
 	if err != nil {

@@ -86,6 +86,11 @@ func TestImportAnswersRefusals(t *testing.T) {
 	before := len(revisionsIn(t, path, ws))
 	w := strconv.FormatInt(ws, 10)
 	good := "expert,question,q05,q50,q95\nInes,Q2,0.1,0.3,0.6\n"
+	// A file named with an invisible text-direction override, whose
+	// name the record could not carry: it was saved, and the workshop's
+	// exported record was then refused by parley import.
+	overridden := filepath.Join(t.TempDir(), "answers\u202evsc.csv")
+	check(t, os.WriteFile(overridden, []byte(good), 0o644))
 	for _, c := range []struct {
 		name string
 		args []string
@@ -98,6 +103,7 @@ func TestImportAnswersRefusals(t *testing.T) {
 		// A quote mark inside a cell crashed the command (a panic in the
 		// CSV reader's FieldPos).
 		{"a quote mark inside a cell", []string{"--in", writeSheet(t, good+"Jomo \"J\" K,Q1,0.1,0.3,0.6\n")}, `row 3, column expert: a quote mark (")`},
+		{"a file's name the record cannot carry", []string{"--in", overridden}, "--in: the file's name must be plain text"},
 		{"no sheet", []string{}, "--in"},
 		{"bad channel", []string{"--in", writeSheet(t, good), "--channel", "carrier-pigeon"}, "--channel"},
 		// The command read any file whole (a 200 MB one took 1.9 GB and

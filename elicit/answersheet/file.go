@@ -3,6 +3,8 @@ package answersheet
 import (
 	"crypto/sha256"
 	"encoding/hex"
+
+	"github.com/parley-elicit/parley/elicit/input"
 )
 
 // MaxBytes is the largest answer sheet Parley reads, uploaded, pasted or
@@ -22,4 +24,13 @@ type File struct {
 func (f File) SHA256() string {
 	sum := sha256.Sum256([]byte(f.Text))
 	return hex.EncodeToString(sum[:])
+}
+
+// CheckName refuses a file name the record cannot carry: the name is
+// kept in the decision log and the export, whose import refuses any text
+// that is not plain (input.CheckChars). A sheet from a file named with an
+// invisible text-direction override (U+202E) was saved, and the
+// workshop's record could then not be imported back.
+func (f File) CheckName() error {
+	return input.CheckChars("file", f.Name)
 }
