@@ -98,13 +98,13 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	if len(b) > MaxBytes {
 		return nil, &elicit.InputError{Field: "sheet", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (1 MiB)", MaxBytes)}
 	}
-	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
-	// would make a quoted first header cell a bare quote.
 	// A spreadsheet's "Unicode text" is UTF-16, each letter two bytes:
 	// read as UTF-8 its header was quoted back as "\xff\xfee\x00x\x00…".
 	if bytes.HasPrefix(b, []byte{0xff, 0xfe}) || bytes.HasPrefix(b, []byte{0xfe, 0xff}) {
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
 	}
+	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
+	// would make a quoted first header cell a bare quote.
 	body := bytes.TrimPrefix(b, []byte("\ufeff"))
 	// A spreadsheet's "CSV (Macintosh)" ends its lines with a carriage
 	// return alone, which CSV reads as part of a cell: the whole sheet
@@ -119,8 +119,8 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	// tabs) between the columns: its header line has none of the commas
 	// a sheet's header needs. Looked for before the CSV is read, as the
 	// cells of such a header in quote marks ("expert";"question") are no
-	// CSV at all and were refused by CSV's rule of quote marks.
-	// The header is the first line that is neither empty nor a comment.
+	// CSV at all and were refused by CSV's rule of quote marks. The
+	// header is the first line that is neither empty nor a comment.
 	var first []byte
 	for rest := body; len(rest) > 0 && len(first) == 0; {
 		first, rest, _ = bytes.Cut(rest, []byte("\n"))
