@@ -167,8 +167,12 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	}
 	ch, version, cancel, err := s.live.subscribe(ws.ID)
 	if err != nil {
+		msg := "Parley has too many live pages open; this page will try again shortly."
+		if errors.Is(err, http.ErrServerClosed) {
+			msg = "Parley is stopping; this page will try again shortly."
+		}
 		w.Header().Set("Retry-After", "10")
-		http.Error(w, "Parley has too many live pages open; this page will try again shortly.", http.StatusServiceUnavailable)
+		http.Error(w, msg, http.StatusServiceUnavailable)
 		return
 	}
 	defer cancel()

@@ -354,3 +354,14 @@ func TestPostsThatChangeNothingPublishNothing(t *testing.T) {
 		t.Errorf("the save's event is %+v", ev)
 	}
 }
+
+// A stream asked for while the server stops is refused in words that say
+// so: it said "Parley has too many live pages open".
+func TestStreamRefusedWhileStoppingSaysSo(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	h.srv.EndStreams()
+	res, body := h.get(workshopPath(ws.ID) + "/events")
+	if res.StatusCode != http.StatusServiceUnavailable || !strings.Contains(body, "Parley is stopping") || strings.Contains(body, "too many") {
+		t.Errorf("a stream asked for while the server stops: %d %q", res.StatusCode, body)
+	}
+}
