@@ -3,6 +3,7 @@ package e2e
 import (
 	"context"
 	"errors"
+	"fmt"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -15,6 +16,9 @@ import (
 	"github.com/chromedp/cdproto/network"
 	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web"
 )
 
 // TestLivePageCatchesAChangeBeforeItsStreamOpened: a change saved after
@@ -57,11 +61,17 @@ func TestLivePageCatchesAChangeBeforeItsStreamOpened(t *testing.T) {
 // would.
 func priyaSaves(t *testing.T, site *site, d demo, values ...string) {
 	t.Helper()
+	priyaSavesTo(t, site, d, d.qs[0], values...)
+}
+
+// priyaSavesTo posts Priya's answer to q.
+func priyaSavesTo(t *testing.T, site *site, d demo, q workshop.Question, values ...string) {
+	t.Helper()
 	form := url.Values{"reason": {"Line audits (invented)."}}
 	for i, v := range values {
 		form.Set("values["+strconv.Itoa(i)+"]", v)
 	}
-	req, _ := http.NewRequest(http.MethodPost, site.URL+linkOf(t, d.links, "Priya Raman")+"q/"+strconv.FormatInt(d.qs[0].ID, 10)+"/save",
+	req, _ := http.NewRequest(http.MethodPost, site.URL+linkOf(t, d.links, "Priya Raman")+"q/"+strconv.FormatInt(q.ID, 10)+"/save",
 		strings.NewReader(form.Encode()))
 	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
 	req.Header.Set("Origin", site.URL)
@@ -155,3 +165,75 @@ func TestLivePageFollowsAfterARefusedForm(t *testing.T) {
 	}
 	fac.sees("the refused form, still there", "Nothing was saved")
 }
+
+// TestLivePageResumesAfterSigningInAgain: the projector's room view, left
+// open while the facilitator's session ended (signed out, or its twelve
+// hours up), was refused its stream (404) and never asked again: signed
+// in anew in another tab, the facilitator found the room view standing
+// still until it was reloaded by hand, and the panel beside it still said
+// it followed new answers. A refused stream is asked for again every few
+// seconds, a page's status line says meanwhile that it does not follow
+// changes, and the pages follow again once the facilitator is signed in:
+// with the browser's shared stream, and with a stream per page (a
+// browser without shared workers).
+func TestLivePageResumesAfterSigningInAgain(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	for _, mode := range []string{"shared", "direct"} {
+		fac := br.person("facilitator, " + mode + " stream")
+		signInAnew(t, site, fac)
+		panel := fac.tab("the panel, " + mode + " stream")
+		for _, p := range []*person{fac, panel} {
+			p.viewport(1366, 768, false)
+			if mode == "direct" {
+				p.do("a browser without shared workers", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+					_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: "delete window.SharedWorker;"})
+					return err
+				}))
+			}
+		}
+		q := d.qs[0]
+		fac.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room")
+		panel.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10))
+		for _, p := range []*person{fac, panel} {
+			p.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+		}
+		fac.postFromPage("/signout", "")
+		// The next change ends the stream of a session that has ended;
+		// asked for again, it is refused.
+		priyaSavesTo(t, site, d, q, "0.02", "0.05", "0.12")
+		for _, p := range []*person{fac, panel} {
+			p.waitFor("the stream refused", `document.documentElement.getAttribute("data-live") === "stopped"`)
+		}
+		panel.sees("the panel whose stream was refused", "But not at the moment: the server refused this page its live changes")
+		shots.part(panel, "p.live-status", "live-stopped-panel-"+mode)
+		signInAnew(t, site, fac.tab("signing in again"))
+		updated := eval[string](fac, "the room's last update", `String(document.documentElement.getAttribute("data-live-updated"))`)
+		priyaSavesTo(t, site, d, q, "0.02", "0.06", "0.13")
+		followed := fmt.Sprintf(`document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.") && String(document.documentElement.getAttribute("data-live-updated")) !== %q`, updated)
+		if err := fac.poll(liveWithin+liveRetry, followed); err != nil {
+			t.Fatalf("%s stream: the room view did not follow again within %v of signing in: %v (the stream is %q)", mode, liveWithin+liveRetry, err,
+				eval[string](fac, "the stream's state", `String(document.documentElement.getAttribute("data-live"))`))
+		}
+		if err := panel.poll(liveWithin+liveRetry, `document.documentElement.getAttribute("data-live") === "connected" && !document.getElementById("live-stopped")`); err != nil {
+			t.Errorf("%s stream: the panel still says it does not follow changes: %v", mode, err)
+		}
+	}
+}
+
+// signInAnew signs p in with a new sign-in address of its own
+// (IssueFacilitatorSecret).
+func signInAnew(t *testing.T, site *site, p *person) {
+	t.Helper()
+	secret, err := web.IssueFacilitatorSecret(context.Background(), site.DB)
+	if err != nil {
+		t.Fatal(err)
+	}
+	p.open(site.URL + web.SignInPath(secret))
+	p.do("wait for the workshop list after sign-in", chromedp.WaitVisible(chromedp.CSS(`form[action="/workshops"]`)))
+}
+
+// liveRetry is how long a page waits before asking again for a stream
+// that was refused (live.js, live-worker.js).
+const liveRetry = 5 * time.Second

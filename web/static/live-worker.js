@@ -11,6 +11,8 @@ var current = null;
 var version = null;
 var stream = null;
 var dropped = false;
+// retryAfter is how long a refused stream waits before asking again, in ms.
+var retryAfter = 5000;
 
 function send(msg) {
   current = msg === "change" ? current : msg;
@@ -57,7 +59,19 @@ function start() {
   });
   stream.addEventListener("error", function () {
     dropped = true;
-    send("reconnecting");
+    if (stream.readyState !== EventSource.CLOSED) {
+      send("reconnecting");
+      return;
+    }
+    // Refused (the session ended, too many streams open, the server
+    // stopping): EventSource does not ask again by itself, and the tabs
+    // stood still until one was reloaded. Ask again in a while.
+    send("stopped");
+    setTimeout(function () {
+      if (stream.readyState === EventSource.CLOSED) {
+        start();
+      }
+    }, retryAfter);
   });
 }
 

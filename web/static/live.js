@@ -72,8 +72,29 @@
     }
   }
 
+  // retryAfter is how long a refused stream waits before asking again,
+  // in ms, as in live-worker.js.
+  var retryAfter = 5000;
+
+  // state notes the stream's state on the page. A stream refused (the
+  // session ended, too many streams) is said in words on a page whose
+  // status line says it follows changes, which it no longer does.
   function state(s) {
     document.documentElement.setAttribute("data-live", s);
+    var note = document.getElementById("live-stopped");
+    if (s !== "stopped") {
+      if (note) { note.remove(); }
+      return;
+    }
+    var line = document.querySelector(".live-status[data-live-src]");
+    if (!note && line) {
+      note = document.createElement("strong");
+      note.id = "live-stopped";
+      note.setAttribute("role", "status");
+      note.textContent = " But not at the moment: the server refused this page its live changes (signed out, or too many live pages open). " +
+        "It asks again every few seconds; sign in again if you were signed out.";
+      line.appendChild(note);
+    }
   }
 
   // heard is the workshop's count of changes as a stream tells it.
@@ -106,7 +127,13 @@
     });
     stream.addEventListener("error", function () {
       dropped = true;
-      state("reconnecting");
+      if (stream.readyState !== EventSource.CLOSED) {
+        state("reconnecting");
+        return;
+      }
+      // Refused: EventSource does not ask again by itself.
+      state("stopped");
+      window.setTimeout(direct, retryAfter);
     });
   }
 
@@ -132,6 +159,7 @@
         break;
       case "connected":
       case "reconnecting":
+      case "stopped":
         state(m.data);
         break;
       case "unsupported":
