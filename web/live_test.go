@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"net/http"
+	"net/http/httptest"
 	"net/url"
 	"regexp"
 	"runtime"
@@ -363,5 +364,33 @@ func TestStreamRefusedWhileStoppingSaysSo(t *testing.T) {
 	res, body := h.get(workshopPath(ws.ID) + "/events")
 	if res.StatusCode != http.StatusServiceUnavailable || !strings.Contains(body, "Parley is stopping") || strings.Contains(body, "too many") {
 		t.Errorf("a stream asked for while the server stops: %d %q", res.StatusCode, body)
+	}
+}
+
+// A stream outlives the server's read and write timeouts (parley serve
+// sets 30 s and 60 s): the stream clears its write deadline, and net/http
+// clears the read deadline once the request is read. Without the first, a
+// live page lost its stream every minute, and missed what changed in the
+// two seconds before it came back. (This fails without the stream's
+// SetWriteDeadline, which no test held before.)
+func TestStreamOutlivesTheServersTimeouts(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	ts := httptest.NewUnstartedServer(h.srv.Handler())
+	ts.Config.ReadTimeout, ts.Config.WriteTimeout = time.Second, time.Second
+	ts.Start()
+	t.Cleanup(ts.Close)
+	h.ts = ts // the harness's cookies are the host's, whatever its port
+	_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if st == nil {
+		t.Fatal("no stream")
+	}
+	<-st.hello
+	time.Sleep(2500 * time.Millisecond) // past both timeouts
+	if r, body := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	if ev := st.next(t, 2*time.Second, "a save after the server's timeouts passed"); ev.Kind != "save" {
+		t.Errorf("the stream's next event is %+v", ev)
 	}
 }
