@@ -13,6 +13,7 @@ var stream = null;
 var dropped = false;
 // retryAfter is how long a refused stream waits before asking again, in ms.
 var retryAfter = 5000;
+var retry = null;
 
 function send(msg) {
   current = msg === "change" ? current : msg;
@@ -35,31 +36,36 @@ function tell(port) {
 }
 
 function start() {
+  if (retry) { // one stream asked for at a time, a page's arrival or the timer
+    clearTimeout(retry);
+    retry = null;
+  }
   if (typeof EventSource === "undefined") {
     send("unsupported");
     return;
   }
-  stream = new EventSource(self.name);
-  stream.addEventListener("change", function (e) {
+  var es = new EventSource(self.name);
+  stream = es;
+  es.addEventListener("change", function (e) {
     version = versionIn(e.data) || version;
     send("change");
   });
-  stream.addEventListener("hello", function (e) {
+  es.addEventListener("hello", function (e) {
     version = versionIn(e.data);
     if (version) {
       ports.forEach(function (p) { p.postMessage("version " + version); });
     }
   });
-  stream.addEventListener("open", function () {
+  es.addEventListener("open", function () {
     send("connected");
     if (dropped) {
       dropped = false;
       send("change");
     }
   });
-  stream.addEventListener("error", function () {
+  es.addEventListener("error", function () {
     dropped = true;
-    if (stream.readyState !== EventSource.CLOSED) {
+    if (es.readyState !== EventSource.CLOSED) {
       send("reconnecting");
       return;
     }
@@ -67,11 +73,14 @@ function start() {
     // stopping): EventSource does not ask again by itself, and the tabs
     // stood still until one was reloaded. Ask again in a while.
     send("stopped");
-    setTimeout(function () {
-      if (stream.readyState === EventSource.CLOSED) {
-        start();
-      }
-    }, retryAfter);
+    if (!retry) {
+      retry = setTimeout(function () {
+        retry = null;
+        if (stream.readyState === EventSource.CLOSED) {
+          start();
+        }
+      }, retryAfter);
+    }
   });
 }
 
