@@ -172,6 +172,11 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		v.Progress = roomProgress(answered, active, verb, ws.Round)
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
+		if ws.Archived {
+			// As the overview and the panels say it: no round opens again
+			// until the workshop is brought back.
+			v.State = "The workshop is archived; round " + strconv.Itoa(ws.Round) + " is closed."
+		}
 		src, err := s.snapshot(r.Context(), ws)
 		if err != nil {
 			return err

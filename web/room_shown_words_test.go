@@ -52,3 +52,17 @@ func TestRoomSaysItShowsAnswersOnlyWhenItDoes(t *testing.T) {
 		}
 	}
 }
+
+// An archived workshop's room view said only "Round 1 is closed.", as
+// though the next round might open; the overview and the panels say the
+// workshop is archived, and so does the room now.
+func TestRoomSaysTheWorkshopIsArchived(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	if err := h.db.SetArchived(context.Background(), ws.ID, true, "Finished (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	_, body := h.get(roomPath(ws.ID, qs[0].ID))
+	if !strings.Contains(body, "The workshop is archived; round 1 is closed.") {
+		t.Errorf("the archived workshop's room view does not say it is archived")
+	}
+}
