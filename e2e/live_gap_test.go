@@ -237,3 +237,71 @@ func signInAnew(t *testing.T, site *site, p *person) {
 // liveRetry is how long a page waits before asking again for a stream
 // that was refused (live.js, live-worker.js).
 const liveRetry = 5 * time.Second
+
+// TestLivePageFetchesAgainAfterAFailedFetch: the room view fetches itself
+// on a change; a fetch that failed (the server busy or restarting, the
+// network dropped) left it as it was until some later change, and one
+// that hung (a connection left dead by a laptop's sleep) kept every later
+// change from fetching it at all. A failed fetch is tried again, and a
+// hung one given up and tried again.
+func TestLivePageFetchesAgainAfterAFailedFetch(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 768, false)
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+	fac.open(room)
+	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+
+	paused := make(chan fetch.RequestID, 8)
+	ctx, cancel := context.WithCancel(fac.ctx)
+	defer cancel()
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*fetch.EventRequestPaused); ok {
+			select {
+			case paused <- e.RequestID:
+			default:
+			}
+		}
+	}); err != nil {
+		t.Fatal(err)
+	}
+	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
+		fac.do(what, chromedp.Func(f))
+	}
+	call("catch the room's fetches of itself", func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room", RequestStage: fetch.RequestStageRequest}}})
+		return err
+	})
+	next := func(what string, within time.Duration) fetch.RequestID {
+		select {
+		case id := <-paused:
+			return id
+		case <-time.After(within):
+			t.Fatalf("%s: the room view did not fetch itself within %v", what, within)
+		}
+		return ""
+	}
+	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
+	// The first fetch fails.
+	id := next("after Priya's save", liveWithin)
+	call("the fetch fails", func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, fetch.FailRequest, fetch.FailRequestParams{RequestID: id, ErrorReason: network.ErrorReasonConnectionReset})
+		return err
+	})
+	// The next hangs: it is never answered.
+	next("after a failed fetch", 5*time.Second)
+	// Given up, it is tried again; this one goes through.
+	id = next("after a fetch that hung", 25*time.Second)
+	call("the fetch goes through", func(ctx context.Context, t *chromedp.Target) error {
+		if _, err := cdp.Call(ctx, t, fetch.ContinueRequest, fetch.ContinueRequestParams{RequestID: id}); err != nil {
+			return err
+		}
+		_, err := cdp.Call(ctx, t, fetch.Disable, cdp.Empty{})
+		return err
+	})
+	if err := fac.poll(liveWithin, `document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.")`); err != nil {
+		t.Fatalf("the room view did not show Priya's save after its fetches failed: %v", err)
+	}
+}

@@ -29,6 +29,16 @@
       (a.tagName === "INPUT" || a.tagName === "TEXTAREA" || a.tagName === "SELECT");
   }
 
+  // A fetch of the page that failed (the server busy or restarting, the
+  // network dropped) or hung (a connection left dead by a laptop's sleep)
+  // left the page as it was until the next change, and a hung one kept
+  // every later change from fetching it: a fetch is given up after
+  // fetchLimit ms, and one that failed is tried again after failedWait ms,
+  // twice as long each time it fails again, up to a minute.
+  var fetchLimit = 15000;
+  var failedWait = 2000;
+  var wait = failedWait;
+
   function refresh() {
     timer = null;
     if (busy) {
@@ -36,7 +46,10 @@
       return;
     }
     busy = true;
-    fetch(page, { credentials: "same-origin", headers: { "Accept": "text/html" } })
+    var stop = window.AbortController ? new AbortController() : null;
+    var limit = stop ? window.setTimeout(function () { stop.abort(); }, fetchLimit) : null;
+    var delay = 0;
+    fetch(page, { credentials: "same-origin", headers: { "Accept": "text/html" }, signal: stop ? stop.signal : undefined })
       .then(function (resp) {
         if (!resp.ok) { throw new Error("status " + resp.status); }
         return resp.text();
@@ -51,24 +64,30 @@
             el.replaceWith(document.importNode(fresh, true));
           }
         });
+        wait = failedWait;
         document.documentElement.setAttribute("data-live-updated", String(Date.now()));
         document.dispatchEvent(new CustomEvent("parley:live"));
       })
       .catch(function () {
-        // The next change tries again; the page stays as it was.
+        again = true;
+        delay = wait;
+        wait = Math.min(2 * wait, 60000);
       })
       .then(function () {
+        if (limit) { window.clearTimeout(limit); }
         busy = false;
         if (again) {
           again = false;
-          schedule();
+          schedule(delay);
         }
       });
   }
 
-  function schedule() {
+  // schedule fetches the page in a while: 250 ms, to gather changes that
+  // arrive close together, or delay ms.
+  function schedule(delay) {
     if (!timer) {
-      timer = window.setTimeout(refresh, 250);
+      timer = window.setTimeout(refresh, delay || 250);
     }
   }
 
@@ -114,7 +133,7 @@
   function direct() {
     var stream = new EventSource(url);
     var dropped = false;
-    stream.addEventListener("change", schedule);
+    stream.addEventListener("change", function () { schedule(); });
     stream.addEventListener("hello", function (e) {
       try { heard(JSON.parse(e.data).version); } catch (err) { schedule(); }
     });
