@@ -305,3 +305,25 @@ func TestLivePageFetchesAgainAfterAFailedFetch(t *testing.T) {
 		t.Fatalf("the room view did not show Priya's save after its fetches failed: %v", err)
 	}
 }
+
+// TestOverviewRosterFollowsALiveSave: after an expert's save the
+// overview's table of who answered what followed it, and the panel's
+// roster under it still said "3 of 6 have a current answer" beside a row
+// of four answers: one screen, two counts.
+func TestOverviewRosterFollowsALiveSave(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 900, false)
+	fac.open(d.url + "/")
+	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	count := `(() => { const row = Array.from(document.querySelectorAll("table.table-roster tbody tr")).find(r => r.innerText.startsWith("Priya Raman")); return row ? row.querySelector('td[data-label="Answers"]').innerText : "<no row>"; })()`
+	if got := eval[string](fac, "Priya's count before", count); got != "3 of 6 have a current answer" {
+		t.Fatalf("Priya's roster line reads %q before her save", got)
+	}
+	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
+	if err := fac.poll(liveWithin, count+` === "4 of 6 have a current answer"`); err != nil {
+		t.Errorf("the roster did not follow Priya's save within %v: it reads %q", liveWithin, eval[string](fac, "Priya's count", count))
+	}
+}
