@@ -3,10 +3,10 @@
 //
 // An element with data-live-src names the workshop's event stream
 // (text/event-stream, same origin). On each change the page is fetched
-// again and every element marked data-live is replaced by its namesake
-// (same id) in the fresh page (data-live-page names it, else the address
-// bar), unless the facilitator is typing inside
-// it. Changes arriving close together are gathered into one fetch.
+// again (at data-live-page, else the address bar's address) and every
+// element marked data-live is replaced by its namesake (same id) in the
+// fresh page, unless the facilitator is typing inside it. Changes
+// arriving close together are gathered into one fetch.
 (function () {
   "use strict";
   var src = document.querySelector("[data-live-src]");
