@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -32,5 +33,28 @@ func TestPanelWithoutExpertsSaysSo(t *testing.T) {
 	}
 	if strings.Contains(body, `id="f-enter-expert"`) || !strings.Contains(body, "There is no expert to enter a judgement for") {
 		t.Errorf("the panel without experts offers an empty choice of expert to enter a judgement for")
+	}
+}
+
+// A question one expert answered (the demo's question 3): on the panel,
+// as in the room view, that expert's curve is drawn above the pool, which
+// is the same curve. Drawn after it, the pool's thick line hid the
+// expert's, and the legend named a line the facilitator could not find.
+func TestPanelDrawsALoneExpertAboveThePool(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(questionPath(ws.ID, qs[2].ID))
+	curves := regexp.MustCompile(`class="curve curve-density curve-(\w+)"`).FindAllStringSubmatch(wideOnly(body), -1)
+	var order []string
+	for _, c := range curves {
+		order = append(order, c[1])
+	}
+	if len(order) < 2 || order[0] != "pool" || order[1] != "expert" {
+		t.Errorf("the panel draws one expert's answer in the order %v, want the pool first and the expert above it", order)
+	}
+	// A panel of several keeps the pool above the experts.
+	_, body = h.get(questionPath(ws.ID, qs[0].ID))
+	curves = regexp.MustCompile(`class="curve curve-density curve-(\w+)"`).FindAllStringSubmatch(wideOnly(body), -1)
+	if n := len(curves); n < 3 || curves[0][1] != "expert" {
+		t.Errorf("question 1's panel draws %v, want the experts first", curves)
 	}
 }

@@ -26,6 +26,13 @@ func panelPicture(frame chart.PanelView, names []string, dists []elicit.ScaledBe
 			Lower: frame.Lower, Upper: frame.Upper, Curves: summary, Others: dists, WholePanel: true, Truth: frame.Truth}}
 	}
 	v := frame
+	if len(dists) == 1 && len(summary) > 0 && summary[0].Role == chart.RolePool {
+		// A pool of one is that expert's curve: drawn after it, its thick
+		// line hid the expert's, whose legend named a line nobody could
+		// find. The expert is drawn above it, as the room view draws them.
+		v.Curves = append(v.Curves, summary[0])
+		summary = summary[1:]
+	}
 	for i, d := range dists {
 		v.Curves = append(v.Curves, chart.Curve{Label: names[i], Role: chart.RoleExpert, Dist: d})
 	}
