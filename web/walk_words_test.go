@@ -1,0 +1,39 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+)
+
+// TestUnscorableCalibrationQuestionSaysSoBeforeAnswers: a facilitator new
+// to Parley asked a calibration question as a four-value interval, the
+// experts answered it, and only then did the calibration page say it is
+// left out of the scores, with its format fixed by the answers: the
+// workshop had no performance weights. The question form says which
+// calibration questions are scored before one is added, and the
+// question's panel says at once that this one is not, while its format
+// can still be corrected.
+func TestUnscorableCalibrationQuestionSaysSoBeforeAnswers(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Unscored seed (invented)")
+	_, form := h.get(workshopPath(ws.ID) + "/questions/new")
+	if !strings.Contains(form, "Only calibration questions asked as quantiles, at the same probabilities as each other, are scored for performance weights") {
+		t.Error("the question form does not say which calibration questions are scored")
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Interval seed"}, "quantity": {"interval seed share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"interval"}, "calibration": {"on"}, "true_value": {"0.3"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("interval seed: %d %s", res.StatusCode, body)
+	}
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 1 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
+	if !strings.Contains(panel, "Left out of the calibration scores: it is asked as a four-value interval, and the classical model scores answers given as quantiles.") {
+		t.Error("the panel of a calibration question asked as an interval does not say it is left out of the scores")
+	}
+}
