@@ -37,3 +37,28 @@ func TestUnscorableCalibrationQuestionSaysSoBeforeAnswers(t *testing.T) {
 		t.Error("the panel of a calibration question asked as an interval does not say it is left out of the scores")
 	}
 }
+
+// TestConsensusConfidenceSaysItIsAPercentage: the agreed-prior form's
+// consensus judgement on a four-value interval asked "How sure is the
+// panel …?" with a bare box, where the expert's own form says "A
+// percentage, for example 80 for 80% sure." with a % beside the box; a
+// facilitator typing the panel's 0.8 was refused as a likely 80%.
+func TestConsensusConfidenceSaysItIsAPercentage(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Consensus interval (invented)")
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Interval question"}, "quantity": {"interval share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"interval"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("interval question: %d %s", res.StatusCode, body)
+	}
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 1 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	_, panel := h.get(questionPath(ws.ID, qs[0].ID))
+	form := panel[strings.Index(panel, `id="agree-form"`):]
+	if !strings.Contains(form, `<span class="hint" id="cf-confidence-hint">A percentage, for example 80 for 80% sure.</span>`) ||
+		!strings.Contains(form, `aria-describedby="cf-confidence-hint"`) || !strings.Contains(form, `<span class="input-suffix">%</span>`) {
+		t.Error("the consensus confidence does not say it is typed as a percentage")
+	}
+}
