@@ -524,6 +524,18 @@ func logScaleRefusal(q workshop.Question) string {
 	return "this question cannot be scored on the log scale"
 }
 
+// notReadyToScore says why a set that is not Ready gives no performance
+// weights, as the page's "Who earns weight" says it: a question still
+// without its true value, or no answered question the classical model
+// scores (every calibration question asked as an interval or in chips,
+// or left unanswered), which no true value will change.
+func notReadyToScore(set workshop.CalibrationSet) string {
+	if n := len(set.Pending); n > 0 {
+		return fmt.Sprintf("performance weights need every calibration question given its true value: %d %s none", n, plural(n, "question still has", "questions still have"))
+	}
+	return "performance weights need at least one answered calibration question asked in quantiles, and this workshop has none (see “Who earns weight”)"
+}
+
 // setCalibrationWeights records the pool weights chosen on the
 // calibration page, with the required reason. Performance weights are the
 // classical model's weights on the experts' current answers with the
@@ -549,7 +561,7 @@ func (s *Server) setCalibrationWeights(w http.ResponseWriter, r *http.Request) {
 	case workshop.WeightsPerformance:
 		set := workshop.NewCalibrationSet(d.Questions, d.Experts, d.Revisions, false)
 		if !set.Ready() {
-			f.set("scheme", "performance weights need every calibration question answered and given its true value")
+			f.set("scheme", notReadyToScore(set))
 			break
 		}
 		if !f.OK() {

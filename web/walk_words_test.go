@@ -4,6 +4,7 @@ import (
 	"context"
 	"net/http"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -60,5 +61,41 @@ func TestConsensusConfidenceSaysItIsAPercentage(t *testing.T) {
 	if !strings.Contains(form, `<span class="hint" id="cf-confidence-hint">A percentage, for example 80 for 80% sure.</span>`) ||
 		!strings.Contains(form, `aria-describedby="cf-confidence-hint"`) || !strings.Contains(form, `<span class="input-suffix">%</span>`) {
 		t.Error("the consensus confidence does not say it is typed as a percentage")
+	}
+}
+
+// TestPerformanceWeightsWithNothingToScoreSayWhy: with its one
+// calibration question asked as a four-value interval, answered by
+// everyone and given its true value, a workshop asking for performance
+// weights was told they "need every calibration question answered and
+// given its true value", which it had; what they need is a calibration
+// question the classical model scores.
+func TestPerformanceWeightsWithNothingToScoreSayWhy(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Nothing to score (invented)")
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Interval seed"}, "quantity": {"interval seed share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"interval"}, "calibration": {"on"}, "true_value": {"0.3"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("interval seed: %d %s", res.StatusCode, body)
+	}
+	_, link := h.addExpert(ws, "Ann Invented")
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 1 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	if res, body := h.post(expertPath(link)+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+		"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.3"}, "confidence": {"80"}}); res.StatusCode != http.StatusSeeOther && res.StatusCode != http.StatusOK {
+		t.Fatalf("answer: %d %s", res.StatusCode, body)
+	}
+	before := h.counts(ws.ID)
+	res, body := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"By calibration (invented)."}})
+	if res.StatusCode != http.StatusUnprocessableEntity || h.counts(ws.ID) != before {
+		t.Fatalf("performance weights with nothing to score: %d", res.StatusCode)
+	}
+	if !strings.Contains(body, "performance weights need at least one answered calibration question asked in quantiles, and this workshop has none") {
+		t.Errorf("the refusal does not say what is missing:\n%s", body[strings.Index(body, `id="weights"`):])
+	}
+	if strings.Contains(body, "need every calibration question answered and given its true value") {
+		t.Error("the refusal asks for what the workshop has")
 	}
 }
