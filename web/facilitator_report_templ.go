@@ -791,9 +791,9 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 						return templ_7745c5c3_Err
 					}
 					var templ_7745c5c3_Var35 string
-					templ_7745c5c3_Var35, templ_7745c5c3_Err = templ.JoinStringErrs(statedLine(f, v.Percent[cf.RevisionID]))
+					templ_7745c5c3_Var35, templ_7745c5c3_Err = templ.JoinStringErrs(v.stated(q.Question, cf, f))
 					if templ_7745c5c3_Err != nil {
-						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 263, Col: 53}
+						return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 263, Col: 41}
 					}
 					_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var35))
 					if templ_7745c5c3_Err != nil {
@@ -2059,6 +2059,23 @@ func sourceShort(s workshop.PriorSource) string {
 		return "quick construction"
 	}
 	return string(s)
+}
+
+// stated is an expert's final judgement as they gave it, as the revision
+// history below and the question's panel write it: a four-value interval
+// as its lowest, highest, best and confidence, chips as their counts. The
+// fit's own points (statedLine) are what the curve was fitted to, and
+// for those formats were never typed: the report gave a best estimate of
+// 0.06 with 80% sure as "10%: 0.02; 50%: 0.06; 90%: 0.15".
+func (v reportView) stated(q workshop.Question, cf record.CurrentFit, f *record.Fit) string {
+	if q.Format != workshop.FormatQuantiles {
+		for _, rv := range v.Record.Revisions {
+			if rv.ID == cf.RevisionID {
+				return answerSummary(q, rv.Answer)
+			}
+		}
+	}
+	return statedLine(f, v.Percent[cf.RevisionID])
 }
 
 // statedLine is a fit's stated judgement as "5%: 0.02; 50%: 0.06; …",

@@ -99,3 +99,51 @@ func TestPerformanceWeightsWithNothingToScoreSayWhy(t *testing.T) {
 		t.Error("the refusal asks for what the workshop has")
 	}
 }
+
+// TestReportFinalJudgementAsGiven: the report's "Each expert's final
+// judgement" wrote a four-value interval (lowest 0.1, highest 0.5, best
+// 0.3, 80% sure) as "10%: 0.1; 50%: 0.3; 90%: 0.5", which the expert
+// never typed, under the same "Stated" as the history below it, which
+// writes it as given; and chips as the fractions below each edge.
+func TestReportFinalJudgementAsGiven(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Report as given (invented)")
+	for _, q := range []url.Values{
+		{"wording": {"Interval question"}, "quantity": {"interval share"}, "lower": {"0"}, "upper": {"1"}, "format": {"interval"}},
+		{"wording": {"Chips question"}, "quantity": {"chips share"}, "lower": {"0"}, "upper": {"1"}, "format": {"chips"}, "bin_edges": {"0 0.25 0.5 1"}, "chips": {"10"}},
+	} {
+		if res, body := h.post(workshopPath(ws.ID)+"/questions", q); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("question: %d %s", res.StatusCode, body)
+		}
+	}
+	_, link := h.addExpert(ws, "Ann Invented")
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 2 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	for i, a := range []url.Values{
+		{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.3"}, "confidence": {"80"}},
+		{"counts[0]": {"2"}, "counts[1]": {"5"}, "counts[2]": {"3"}},
+	} {
+		if res, body := h.post(expertPath(link)+"q/"+strconv.FormatInt(qs[i].ID, 10)+"/save", a); res.StatusCode != http.StatusSeeOther && res.StatusCode != http.StatusOK {
+			t.Fatalf("answer %d: %d %s", i+1, res.StatusCode, body)
+		}
+	}
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	var fits []string
+	for _, part := range strings.Split(report, `class="table table-compact table-fits"`)[1:] {
+		fits = append(fits, part[:strings.Index(part, "</table>")])
+	}
+	if len(fits) != 2 {
+		t.Fatalf("%d tables of final judgements, want 2", len(fits))
+	}
+	for i, want := range []string{"lowest\u00a00.1; highest\u00a00.5; best\u00a00.3; sure\u00a080%", "chips 2, 5, 3"} {
+		if !strings.Contains(fits[i], want) {
+			t.Errorf("question %d's final judgement is not written as given (%q):\n%s", i+1, want, fits[i])
+		}
+	}
+	if strings.Contains(fits[0], "10%:") {
+		t.Error("the interval's final judgement is written as quantiles it never stated")
+	}
+}
