@@ -282,6 +282,10 @@ func TestFirstTimeWalk(t *testing.T) {
 		if st != http.StatusOK {
 			t.Errorf("%s: status %d", path, st)
 		}
+		if looked {
+			body := eval[string](fac, "read "+path, fmt.Sprintf(`fetch(%q).then(r => r.text())`, wsURL+path))
+			_ = os.WriteFile(shots.dir+"/"+strings.ReplaceAll(path, "/", "-"), []byte(body), 0o644)
+		}
 	}
 	fac.open(wsURL + "q/3")
 	fac.sees("an interval calibration question's panel", "Left out of the calibration scores: it is asked as a four-value interval")
