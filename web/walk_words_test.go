@@ -147,3 +147,35 @@ func TestReportFinalJudgementAsGiven(t *testing.T) {
 		t.Error("the interval's final judgement is written as quantiles it never stated")
 	}
 }
+
+// TestOneScoredCalibrationQuestionInTheSingular: under performance
+// weights from one calibration question the calibration page said the
+// weights were stored with "the 1 calibration question scored with their
+// true values".
+func TestOneScoredCalibrationQuestionInTheSingular(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("One seed (invented)")
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Seed"}, "quantity": {"seed share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}, "calibration": {"on"}, "true_value": {"0.3"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("seed: %d %s", res.StatusCode, body)
+	}
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 1 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	for i, vs := range [][]string{{"0.2", "0.28", "0.4"}, {"0.05", "0.1", "0.15"}} {
+		_, link := h.addExpert(ws, []string{"Ann Invented", "Bo Invented"}[i])
+		if res, body := h.post(expertPath(link)+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", url.Values{
+			"values[0]": {vs[0]}, "values[1]": {vs[1]}, "values[2]": {vs[2]}}); res.StatusCode != http.StatusSeeOther && res.StatusCode != http.StatusOK {
+			t.Fatalf("answer: %d %s", res.StatusCode, body)
+		}
+	}
+	if res, body := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"By calibration (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("performance weights: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(page, "the 1 calibration question scored with its true value,") {
+		t.Error("one scored calibration question is not written in the singular")
+	}
+}
