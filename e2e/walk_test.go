@@ -250,6 +250,10 @@ func TestFirstTimeWalk(t *testing.T) {
 	ana.open(links["Ana Example"])
 	openQuestion(t, ana, links["Ana Example"], 3)
 	phoneShot(ana, "x17-q3-revealed-390")
+	fac.open(wsURL + "q/2/room")
+	both(fac, "w15a-room-q2", false)
+	fac.open(wsURL + "q/4/room")
+	both(fac, "w15b-room-q4", false)
 
 	// Agree a prior on Q1 from the pool.
 	fac.open(wsURL + "q/1")
