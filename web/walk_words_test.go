@@ -179,3 +179,22 @@ func TestOneScoredCalibrationQuestionInTheSingular(t *testing.T) {
 		t.Error("one scored calibration question is not written in the singular")
 	}
 }
+
+// TestLinkPageSaysToCopyBeforeTheNext: a facilitator new to Parley adds
+// the panel one expert after another from the link page's own form; each
+// page shows only the expert just added, so the earlier links were gone
+// from the screen before they were copied. The page says to copy the link
+// first.
+func TestLinkPageSaysToCopyBeforeTheNext(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Links (invented)")
+	res, _ := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {"Ann Invented"}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add expert: %d", res.StatusCode)
+	}
+	_, page := h.get(res.Header.Get("Location"))
+	if !strings.Contains(page, "Copy it before you add the next expert: the next page shows only theirs.") {
+		t.Error("the link page does not say to copy the link before adding the next expert")
+	}
+}
