@@ -198,3 +198,37 @@ func TestLinkPageSaysToCopyBeforeTheNext(t *testing.T) {
 		t.Error("the link page does not say to copy the link before adding the next expert")
 	}
 }
+
+// TestClosedRoundPanelOffersNoEntry: while round 1 was closed for the
+// discussion, each question's panel offered "Enter or revise" on an
+// expert's behalf, which led only to a page saying nothing can be entered
+// until the next round opens. The panel says so itself, and where the
+// next round is opened.
+func TestClosedRoundPanelOffersNoEntry(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Closed round entry (invented)")
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Question"}, "quantity": {"a share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("question: %d %s", res.StatusCode, body)
+	}
+	h.addExpert(ws, "Ann Invented")
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil || len(qs) != 1 {
+		t.Fatalf("questions %v, %v", qs, err)
+	}
+	_, open := h.get(questionPath(ws.ID, qs[0].ID))
+	if !strings.Contains(open, "Enter or revise") {
+		t.Fatal("an open round's panel offers no entry on an expert's behalf")
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close round 1: %d %s", res.StatusCode, body)
+	}
+	_, closed := h.get(questionPath(ws.ID, qs[0].ID))
+	if strings.Contains(closed, "Enter or revise") {
+		t.Error("a closed round's panel offers to enter a judgement, which the entry page can only refuse")
+	}
+	if !strings.Contains(closed, "Round 1 is closed: judgements can be entered on an expert's behalf again once you open the next round on the") {
+		t.Error("a closed round's panel does not say when judgements can be entered again")
+	}
+}
