@@ -212,7 +212,7 @@ func TestClosedRoundPanelOffersNoEntry(t *testing.T) {
 		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("question: %d %s", res.StatusCode, body)
 	}
-	h.addExpert(ws, "Ann Invented")
+	ann, _ := h.addExpert(ws, "Ann Invented")
 	qs, err := h.db.Questions(context.Background(), ws.ID)
 	if err != nil || len(qs) != 1 {
 		t.Fatalf("questions %v, %v", qs, err)
@@ -230,5 +230,13 @@ func TestClosedRoundPanelOffersNoEntry(t *testing.T) {
 	}
 	if !strings.Contains(closed, "Round 1 is closed: judgements can be entered on an expert's behalf again once you open the next round on the") {
 		t.Error("a closed round's panel does not say when judgements can be entered again")
+	}
+	// The expert's own page offered the same way in beside each question.
+	_, page := h.get(expertPagePath(ws.ID, ann.ID))
+	if strings.Contains(page, "Enter or revise") {
+		t.Error("a closed round's page of one expert offers to enter a judgement, which the entry page can only refuse")
+	}
+	if !strings.Contains(page, "Round 1 is closed: judgements can be entered on Ann Invented's behalf again once you open the next round on the") {
+		t.Error("a closed round's page of one expert does not say when judgements can be entered again")
 	}
 }
