@@ -196,7 +196,13 @@ func TestFirstTimeWalk(t *testing.T) {
 	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds button[type=submit]`)))
 	both(fac, "w08-overview-closed", false)
 	fac.open(wsURL + "q/1")
+	fac.sees("a closed round's panel", "Round 1 is closed: judgements can be entered on an expert's behalf again once you open the next round")
 	both(fac, "w09-panel-q1", false)
+	if looked {
+		shots.part(fac, "#enter", "w09a-panel-enter-closed")
+	}
+	fac.open(wsURL + "experts/1")
+	both(fac, "w09b-expert-page-closed", false)
 	fac.open(wsURL + "q/2")
 	both(fac, "w10-panel-q2", false)
 	fac.open(wsURL + "q/3")
