@@ -339,7 +339,11 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			if q.Calibration {
 				kind = "Calibration question"
 			}
-			return kind + ", asked as " + workshop.FormatLabel(q) + "."
+			how := workshop.FormatLabel(q)
+			if q.Format == workshop.FormatInterval {
+				how = "a " + how // "asked as a four-value interval", as a sentence says it
+			}
+			return kind + ", asked as " + how + "."
 		}
 	case workshop.EventWeightsSet:
 		return w.weights(d)

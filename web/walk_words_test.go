@@ -240,3 +240,18 @@ func TestClosedRoundPanelOffersNoEntry(t *testing.T) {
 		t.Error("a closed round's page of one expert does not say when judgements can be entered again")
 	}
 }
+
+// TestLogSaysAskedAsAFourValueInterval: the decision log said
+// "Calibration question, asked as four-value interval."
+func TestLogSaysAskedAsAFourValueInterval(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Log words (invented)")
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"Interval question"}, "quantity": {"interval share"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"interval"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("question: %d %s", res.StatusCode, body)
+	}
+	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "Target question, asked as a four-value interval.") {
+		t.Error("the log does not say the question is asked as a four-value interval")
+	}
+}
