@@ -59,6 +59,8 @@ const (
 	// RuleQuote is CSV's rule of quote marks, which a spreadsheet keeps
 	// and a sheet typed or pasted by hand may break (12" pipes).
 	RuleQuote elicit.Rule = `a quote mark (") inside a cell must be doubled (""), with the whole cell in quote marks`
+	// RuleHashName refuses a row read as a comment that names an expert.
+	RuleHashName elicit.Rule = `starts with #, which makes the row a comment, and names an expert on the panel: put the name in quote marks ("#1")`
 )
 
 // maxRows bounds a sheet: a panel of 200 experts answering 50
@@ -184,6 +186,9 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		if _, ok := col[need]; !ok {
 			return nil, rowErr(headerRow, need, RuleHeader, "missing")
 		}
+	}
+	if err := expertInComment(body, col["expert"], experts); err != nil {
+		return nil, err
 	}
 	var rows []Row
 	seen := map[[2]int64]int{}
@@ -599,6 +604,44 @@ func countRows(body []byte) int {
 				n++
 				break
 			}
+		}
+	}
+}
+
+// expertInComment refuses a line below the header that the sheet's
+// reader skips as a comment (it starts with #) but whose expert cell
+// names an active expert: a panel whose experts are named #1, #2, …
+// had those rows dropped without a word. The lines are read as CSV
+// without comments, so that a # inside a quoted cell (a reason in
+// paragraphs) is no line of its own; a sheet that is no CSV is left to
+// the reader's own refusal.
+func expertInComment(body []byte, expertCol int, experts []workshop.Expert) error {
+	cr := csv.NewReader(bytes.NewReader(body))
+	cr.FieldsPerRecord = -1
+	header := true
+	for {
+		// The record's first character as the file has it: a quoted
+		// "#1" is no comment.
+		at := int(cr.InputOffset())
+		for at < len(body) && (body[at] == '\n' || body[at] == '\r') {
+			at++
+		}
+		rec, err := cr.Read()
+		if err != nil {
+			return nil
+		}
+		line, _ := cr.FieldPos(0)
+		raw := at < len(body) && body[at] == '#'
+		if header {
+			// Comment lines above the header are the sheet's notes.
+			header = raw
+			continue
+		}
+		if !raw || expertCol >= len(rec) {
+			continue
+		}
+		if _, n := findExpert(strings.TrimSpace(rec[expertCol]), experts); n > 0 {
+			return rowErr(line, "expert", RuleHashName, "the row of %s is read as a comment and would be left out", shownCell(rec[expertCol]))
 		}
 	}
 }

@@ -112,3 +112,24 @@ func FuzzReadAnswerSheet(f *testing.F) {
 		}
 	})
 }
+
+// A panel whose experts are named #1, #2, … (invented): a row starting
+// with such a name is a comment to CSV and was left out without a word.
+// It is refused, naming the row and saying to quote the name; a quoted
+// "#1" is read as the expert's row, and comments above the header and
+// below it that name nobody are still comments.
+func TestARowReadAsACommentThatNamesAnExpertIsRefused(t *testing.T) {
+	qs := []workshop.Question{{ID: 7, Position: 1, Wording: "Invented: share blocked?", Quantity: "blocked share",
+		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}}
+	es := []workshop.Expert{{ID: 1, Name: "#1"}, {ID: 2, Name: "#2"}}
+	head := "# Sent by the site team (invented)\nexpert,question,q05,q50,q95\n"
+	_, err := Read(strings.NewReader(head+"#1,Q1,0.02,0.06,0.15\n\"#2\",Q1,0.03,0.07,0.2\n"), qs, es)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Field != "row 3, column expert" || ie.Rule != RuleHashName {
+		t.Fatalf("a row of #1 unquoted: %v, want row 3, column expert: %s", err, RuleHashName)
+	}
+	rows, err := Read(strings.NewReader(head+"\"#1\",Q1,0.02,0.06,0.15\n# checked by phone (invented)\n\"#2\",Q1,0.03,0.07,0.2\n"), qs, es)
+	if err != nil || len(rows) != 2 || rows[0].Expert.ID != 1 || rows[1].Expert.ID != 2 {
+		t.Fatalf("quoted names: %d rows, %v; want both experts' rows", len(rows), err)
+	}
+}
