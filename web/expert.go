@@ -811,6 +811,15 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 		if fit, err := s.fits.fit(sc.question, cur); err == nil {
 			preview = newPreview(sc.question, fit, cur.Answer.Percent, speaker{})
 		}
+	} else if sc.question.ValuesInPercent() {
+		percent, err := s.typesPercentages(r, sc)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		if percent {
+			typed = map[string]string{"unit": unitPercent}
+		}
 	}
 	v := s.questionView(r, sc, typed, "")
 	v.Preview = preview
@@ -1534,6 +1543,38 @@ const overlayLimit = 12
 // poolCurve is the equal-weight pool as a curve to draw.
 func poolCurve(pool elicit.Pool) chart.Curve {
 	return chart.Curve{Label: workshop.WeightsEqual.PoolName(), Role: chart.RolePool, Dist: chart.Pool{Pool: pool}}
+}
+
+// typesPercentages reports whether the expert, on their own link, last
+// wrote a proportion as percentages: a question they have not answered
+// yet then offers percentages first. An expert who chose "as
+// percentages" on one question found the next back on proportions, and
+// their 25 refused ("Did you mean 25%?"), question after question. An
+// answer the facilitator entered for them is not their habit.
+func (s *Server) typesPercentages(r *http.Request, sc expertScope) (bool, error) {
+	if err := r.Context().Err(); err != nil {
+		// The expert has gone: no more reads for a page nobody gets.
+		return false, err
+	}
+	revs, err := s.store.ExpertRevisions(r.Context(), sc.expert.ID)
+	if err != nil {
+		return false, err
+	}
+	qs, err := s.store.Questions(r.Context(), sc.workshop.ID)
+	if err != nil {
+		return false, err
+	}
+	byID := make(map[int64]workshop.Question, len(qs))
+	for _, q := range qs {
+		byID[q.ID] = q
+	}
+	for i := len(revs) - 1; i >= 0; i-- {
+		rv := revs[i]
+		if q, ok := byID[rv.QuestionID]; ok && q.ValuesInPercent() && rv.EnteredBy != workshop.ByFacilitator {
+			return rv.Answer.Percent, nil
+		}
+	}
+	return false, nil
 }
 
 // nextUnanswered finds, after a save, the first question after this one
