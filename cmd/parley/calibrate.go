@@ -196,6 +196,14 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	if len(b) > maxSeedInput {
 		return nil, &elicit.InputError{Field: "input", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (4 MiB)", maxSeedInput)}
 	}
+	// Read as the answer sheet reads a spreadsheet's CSV: its lines
+	// ended by a carriage return alone were one row, and a header in
+	// quote marks with semicolons between its cells ("expert";"question")
+	// was refused by CSV's rule of quote marks, not as semicolon-separated.
+	b = answersheet.SpreadsheetLines(b)
+	if sep := answersheet.OtherSeparator(b); sep != "" {
+		return nil, &elicit.InputError{Field: "header", Rule: answersheet.RuleCommas, Detail: "the columns are separated by " + sep}
+	}
 	cr := csv.NewReader(bytes.NewReader(b))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
@@ -431,16 +439,6 @@ func parseSeedHeader(header []string) ([]string, []float64, error) {
 	cols := make([]string, len(header))
 	for i, h := range header {
 		cols[i] = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
-	}
-	if len(cols) == 1 {
-		// A spreadsheet set to a decimal comma saves CSV with semicolons
-		// (or tabs) between the columns, as the answer sheet says.
-		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
-			if strings.Contains(cols[0], sep.char) {
-				return nil, nil, &elicit.InputError{Field: "header", Rule: answersheet.RuleCommas,
-					Detail: "the columns are separated by " + sep.name}
-			}
-		}
 	}
 	for i, want := range seedHeader {
 		if i >= len(cols) || (cols[i] != want && !(want == "realization" && cols[i] == "realisation")) {

@@ -8,6 +8,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"reflect"
 	"regexp"
 	"slices"
 	"strconv"
@@ -244,6 +245,10 @@ func TestCalibrateBadInput(t *testing.T) {
 		// "header column 1: … (want "expert")".
 		{"semicolons", "expert;question;realization;q05;q50;q95\nA;s1;1;0;1;2\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
 		{"tabs", "expert\tquestion\trealization\tq05\tq50\tq95\nA\ts1\t1\t0\t1\t2\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by tabs"}},
+		// Its cells in quote marks, as such a spreadsheet writes them: it
+		// read "row 1: must be well-formed CSV (extraneous or missing \"
+		// in quoted-field)", as the answer sheet did before it was taught.
+		{"semicolons between quoted cells", `"expert";"question";"realization";"q05";"q50";"q95"` + "\n" + `"A";"s1";"1";"0";"1";"2"` + "\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
 		args = append(args, c.args...)
@@ -952,5 +957,32 @@ func TestCalibrateSkipsRowsOfEmptyCells(t *testing.T) {
 	code, got, errOut := runCLI(t, sheet+",,,,,\r\n , , ,,,\r\n,,,,,\r\n", "calibrate", "--input", "-", "--format", "json")
 	if code != exitOK || got != want || want == "" {
 		t.Errorf("with rows of empty cells: exit %d, %q; want the scores without them\n%s", code, errOut, got)
+	}
+}
+
+// TestCalibrateReadsASpreadsheetsLines: a calibration file as a
+// spreadsheet saves it, with lines ended by a carriage return alone
+// ("CSV (Macintosh)") or a byte order mark before a quoted header ("CSV
+// UTF-8"), is read as the same file with plain lines, as the answer
+// sheet reads it; the first was one row, refused as naming the header
+// column "q95\ra", the second by CSV's rule of quote marks.
+func TestCalibrateReadsASpreadsheetsLines(t *testing.T) {
+	plain := "expert,question,realization,q05,q50,q95\nA,q1,3,2,5,8\nB,q1,3,4,5,6\n"
+	want, err := readSeedCSV(strings.NewReader(plain))
+	if err != nil {
+		t.Fatal(err)
+	}
+	for name, file := range map[string]string{
+		"carriage returns":        strings.ReplaceAll(plain, "\n", "\r"),
+		"byte order mark, quoted": "\ufeff" + `"expert","question","realization","q05","q50","q95"` + plain[strings.IndexByte(plain, '\n'):],
+	} {
+		got, err := readSeedCSV(strings.NewReader(file))
+		if err != nil {
+			t.Errorf("%s: %v", name, err)
+			continue
+		}
+		if !reflect.DeepEqual(got.assessments, want.assessments) || !reflect.DeepEqual(got.realisations, want.realisations) {
+			t.Errorf("%s: read %+v, want %+v", name, got.assessments, want.assessments)
+		}
 	}
 }

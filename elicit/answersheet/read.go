@@ -85,6 +85,46 @@ func rowErr(line int, column string, rule elicit.Rule, detail string, args ...an
 	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: rule, Detail: fmt.Sprintf(detail, args...)}
 }
 
+// SpreadsheetLines makes a CSV file as a spreadsheet saves it readable
+// by encoding/csv, for the answer sheet and parley calibrate alike. A
+// spreadsheet's "CSV UTF-8" starts with a byte order mark, which would
+// make a quoted first header cell a bare quote. Its "CSV (Macintosh)"
+// ends its lines with a carriage return alone, which CSV reads as part
+// of a cell: the whole sheet was one row, its header quoted back as
+// "q95\rada quell".
+func SpreadsheetLines(b []byte) []byte {
+	body := bytes.TrimPrefix(b, []byte("\ufeff"))
+	if bytes.IndexByte(body, '\n') < 0 {
+		body = bytes.ReplaceAll(body, []byte("\r"), []byte("\n"))
+	}
+	return body
+}
+
+// OtherSeparator names what separates a CSV file's columns where its
+// header line has no comma: "semicolons" or "tabs", as a spreadsheet
+// set to a decimal comma saves CSV, or "" (for the answer sheet and
+// parley calibrate alike). Looked for before the CSV is read, as the
+// cells of such a header in quote marks ("expert";"question") are no
+// CSV at all and were refused by CSV's rule of quote marks. The header
+// is the first line that is neither empty nor a comment.
+func OtherSeparator(body []byte) string {
+	var first []byte
+	for rest := body; len(rest) > 0 && len(first) == 0; {
+		first, rest, _ = bytes.Cut(rest, []byte("\n"))
+		if first = bytes.TrimRight(first, "\r"); bytes.HasPrefix(first, []byte("#")) {
+			first = nil
+		}
+	}
+	if !bytes.ContainsRune(first, ',') {
+		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
+			if bytes.Contains(first, []byte(sep.char)) {
+				return sep.name
+			}
+		}
+	}
+	return ""
+}
+
 // Read reads a sheet against a workshop's questions and panel.
 // Rows are returned in file order, each fitted by its question's Fit, or
 // the first broken rule as an *elicit.InputError naming the row and the
@@ -105,37 +145,13 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	if bytes.HasPrefix(b, []byte{0xff, 0xfe}) || bytes.HasPrefix(b, []byte{0xfe, 0xff}) {
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
 	}
-	// A spreadsheet's "CSV UTF-8" starts with a byte order mark, which
-	// would make a quoted first header cell a bare quote.
-	body := bytes.TrimPrefix(b, []byte("\ufeff"))
-	// A spreadsheet's "CSV (Macintosh)" ends its lines with a carriage
-	// return alone, which CSV reads as part of a cell: the whole sheet
-	// was one row, its header quoted back as "q95\rada quell".
-	if bytes.IndexByte(body, '\n') < 0 {
-		body = bytes.ReplaceAll(body, []byte("\r"), []byte("\n"))
-	}
+	body := SpreadsheetLines(b)
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.Comment = '#'
 	cr.FieldsPerRecord = -1
-	// A spreadsheet set to a decimal comma saves CSV with semicolons (or
-	// tabs) between the columns: its header line has none of the commas
-	// a sheet's header needs. Looked for before the CSV is read, as the
-	// cells of such a header in quote marks ("expert";"question") are no
-	// CSV at all and were refused by CSV's rule of quote marks. The
-	// header is the first line that is neither empty nor a comment.
-	var first []byte
-	for rest := body; len(rest) > 0 && len(first) == 0; {
-		first, rest, _ = bytes.Cut(rest, []byte("\n"))
-		if first = bytes.TrimRight(first, "\r"); bytes.HasPrefix(first, []byte("#")) {
-			first = nil
-		}
-	}
-	if !bytes.ContainsRune(first, ',') {
-		for _, sep := range []struct{ char, name string }{{";", "semicolons"}, {"\t", "tabs"}} {
-			if bytes.Contains(first, []byte(sep.char)) {
-				return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep.name}
-			}
-		}
+	// Looked for before the CSV is read (OtherSeparator).
+	if sep := OtherSeparator(body); sep != "" {
+		return nil, &elicit.InputError{Field: "sheet", Rule: RuleCommas, Detail: "the columns are separated by " + sep}
 	}
 	// Counted before any row is read and fitted: a sheet of 10,001 rows
 	// was refused at its last, after two seconds fitting the others, as
