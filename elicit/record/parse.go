@@ -64,6 +64,11 @@ func ParseChecked(rd io.Reader) (Checked, error) {
 	if err != nil {
 		return Checked{}, err
 	}
+	// A question's "lower": -0 is kept 0 by the store, but its revisions'
+	// fits were made and kept on [-0, 1], exported back as "lower": -0.
+	// The fits are derived, outside the chain; the facts stay as read,
+	// since the chain tells -0 from 0 (testdata/fingerprint/edge_cases.json).
+	positiveZeros(reflect.ValueOf(fits))
 	return Checked{Record: r, Fits: fits}, nil
 }
 
@@ -95,6 +100,38 @@ func Decode(rd io.Reader) (Record, error) {
 		return Record{}, inputErr("record", RuleJSON, "data after the record")
 	}
 	return r, nil
+}
+
+// positiveZeros makes every −0 among v's numbers 0, as input.Number
+// reads a typed -0 and `parley pool` a JSON one.
+func positiveZeros(v reflect.Value) {
+	switch v.Kind() {
+	case reflect.Float32, reflect.Float64:
+		if v.CanSet() && v.Float() == 0 {
+			v.SetFloat(0)
+		}
+	case reflect.Pointer:
+		if !v.IsNil() {
+			positiveZeros(v.Elem())
+		}
+	case reflect.Struct:
+		for i := range v.NumField() {
+			if v.Type().Field(i).IsExported() {
+				positiveZeros(v.Field(i))
+			}
+		}
+	case reflect.Slice, reflect.Array:
+		for i := range v.Len() {
+			positiveZeros(v.Index(i))
+		}
+	case reflect.Map:
+		for _, k := range v.MapKeys() {
+			e := reflect.New(v.Type().Elem()).Elem()
+			e.Set(v.MapIndex(k))
+			positiveZeros(e)
+			v.SetMapIndex(k, e)
+		}
+	}
 }
 
 // scanRecord reads doc against the layout of Record (input.ScanJSON) and
