@@ -75,11 +75,22 @@ func constructionInput(f *Form, q workshop.Question, method elicit.ConstructionM
 	case method == elicit.MethodEquivalentSample:
 		in.Successes, in.Trials = f.Float("c_successes"), f.Float("c_trials")
 	case method == elicit.MethodMeanSD:
-		in.Mean, in.SD = f.Float("c_mean"), f.Float("c_sd")
+		in.Mean, in.SD = valueOf(f, q, "c_mean"), valueOf(f, q, "c_sd")
 	case method.IsInterval():
-		in.Low, in.High, in.Coverage = f.Float("c_low"), f.Float("c_high"), coverageOf(f)
+		in.Low, in.High, in.Coverage = valueOf(f, q, "c_low"), valueOf(f, q, "c_high"), coverageOf(f)
 	}
 	return in
+}
+
+// valueOf reads a value on the question's scale: on a proportion it
+// takes a % sign (3% is 0.03), as the coverage beside it, the experts'
+// answers and the true value do; the low end's "3%" was refused as not
+// a plain decimal number while the coverage's "90%" was taken. Elsewhere
+// a % sign is refused naming the field.
+func valueOf(f *Form, q workshop.Question, name string) float64 {
+	v, _, err := workshop.ParseAnswerNumber(name, f.Value(name), q, false)
+	f.failField(name, err)
+	return v
 }
 
 // coverageOf reads the interval's coverage: a fraction (0.9), or a
