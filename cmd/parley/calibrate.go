@@ -97,7 +97,24 @@ func writeCalibration(w io.Writer, format string, s elicit.Scores, rob *elicit.L
 		return errors.New("the calibration produced a non-finite number; nothing printed")
 	}
 	if format == "json" {
-		return writeJSON(w, calibrateOutput{Scores: s, LeaveOneOut: rob})
+		out := calibrateOutput{Scores: s}
+		if rob != nil {
+			// The notes the text prints, and how many reruns were done:
+			// over none, "max_shift": 0 is no shift measured, and the
+			// note was the library's "wrong number of entries".
+			r := leaveOneOutJSON{LeaveOneOutReport: *rob}
+			r.Cases = append([]elicit.LeaveOneOutCase(nil), rob.Cases...)
+			kinds := rerunKinds(rob.Cases)
+			for i := range r.Cases {
+				if r.Cases[i].Error == "" {
+					r.RerunsDone++
+				} else {
+					r.Cases[i].Error = rerunNote(r.Cases[i], kinds)
+				}
+			}
+			out.LeaveOneOut = &r
+		}
+		return writeJSON(w, out)
 	}
 	if err := writeScoresTable(w, s, optimised); err != nil {
 		return err
@@ -141,7 +158,38 @@ func calibrationNumbers(s elicit.Scores, rob *elicit.LeaveOneOutReport) []float6
 // robustness report under "leave_one_out".
 type calibrateOutput struct {
 	elicit.Scores
-	LeaveOneOut *elicit.LeaveOneOutReport `json:"leave_one_out,omitempty"`
+	LeaveOneOut *leaveOneOutJSON `json:"leave_one_out,omitempty"`
+}
+
+// leaveOneOutJSON is the report's keys and reruns_done, how many of its
+// cases could be rerun: with none, max_shift is 0 and measures nothing.
+type leaveOneOutJSON struct {
+	elicit.LeaveOneOutReport
+	RerunsDone int `json:"reruns_done"`
+}
+
+// rerunKinds counts the cases of each kind (a question or an expert
+// left out).
+func rerunKinds(cases []elicit.LeaveOneOutCase) map[string]int {
+	kinds := map[string]int{}
+	for _, c := range cases {
+		kinds[c.LeftOut]++
+	}
+	return kinds
+}
+
+// rerunNote says why a case could not be rerun. Without the only
+// question or the only expert nothing is left to score; the library's
+// words for it ("wrong number of entries") say less (the calibration
+// page's rerunError).
+func rerunNote(c elicit.LeaveOneOutCase, kinds map[string]int) string {
+	switch {
+	case c.Error != "" && c.LeftOut == elicit.LeaveOutQuestion && kinds[c.LeftOut] == 1:
+		return "leaving out the only calibration question leaves nothing to score"
+	case c.Error != "" && c.LeftOut == elicit.LeaveOutExpert && kinds[c.LeftOut] == 1:
+		return "leaving out the only expert leaves no one to score"
+	}
+	return c.Error
 }
 
 // seedCSV is a parsed calibration CSV; rows[i] is the file line of
@@ -616,9 +664,8 @@ func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport, s elicit.Scores) 
 	// How many reruns of each kind there are, and how many were done: a
 	// largest shift of 0 over no rerun would claim a steadiness nothing
 	// tested.
-	kinds, done := map[string]int{}, 0
+	kinds, done := rerunKinds(r.Cases), 0
 	for _, c := range r.Cases {
-		kinds[c.LeftOut]++
 		if c.Error == "" {
 			done++
 		}
@@ -631,16 +678,7 @@ func writeLeaveOneOut(w io.Writer, r elicit.LeaveOneOutReport, s elicit.Scores) 
 	tw := tabwriter.NewWriter(w, 0, 0, 2, ' ', 0)
 	fmt.Fprintln(tw, "left out\tname\talpha\tlargest shift\tnote")
 	for _, c := range r.Cases {
-		note := c.Error
-		// Without the only question or the only expert nothing is left
-		// to score; the library's words for it ("wrong number of
-		// entries") say less (the calibration page's rerunError).
-		switch {
-		case note != "" && c.LeftOut == elicit.LeaveOutQuestion && kinds[c.LeftOut] == 1:
-			note = "leaving out the only calibration question leaves nothing to score"
-		case note != "" && c.LeftOut == elicit.LeaveOutExpert && kinds[c.LeftOut] == 1:
-			note = "leaving out the only expert leaves no one to score"
-		}
+		note := rerunNote(c, kinds)
 		if note == "" && len(c.Unpooled) > 0 {
 			note = "no weighted expert on " + strings.Join(c.Unpooled, ", ")
 		}
