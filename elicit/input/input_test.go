@@ -305,6 +305,8 @@ func TestTypedWritesALongNumberWithAnExponent(t *testing.T) {
 	}{
 		{1e-300, false, "1e-300"}, {1e-300, true, "1e-298"}, {1.5e21, false, "1.5e21"}, {2.5e-7, false, "0.00000025"},
 		{0.07, true, "7"}, {123456.789, false, "123456.789"}, {1e-22, false, "1e-22"}, {-3.25e-30, false, "-3.25e-30"},
+		// −0 (a record's fact kept as read) is written 0, as Number reads -0.
+		{math.Copysign(0, -1), false, "0"}, {math.Copysign(0, -1), true, "0"},
 	} {
 		got := Typed(c.v, c.percent)
 		if got != c.want {

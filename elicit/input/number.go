@@ -190,6 +190,12 @@ func Typed(v float64, percent bool) string {
 	if p, err := strconv.ParseFloat(strconv.FormatFloat(v, 'g', 12, 64), 64); err == nil {
 		v = p
 	}
+	if v == 0 {
+		// −0, as a record's facts may keep it (the chain tells it from
+		// 0), is written 0, as Number reads a typed -0: a form wrote
+		// it back as "-0".
+		v = 0
+	}
 	s := strconv.FormatFloat(v, 'f', -1, 64)
 	if len(s) <= typedPlainMax {
 		return s
