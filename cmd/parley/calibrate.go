@@ -224,16 +224,17 @@ var boundColumns = []string{"lower", "upper"}
 // default. Named for the classical model's background measure.
 const scaleColumn = "background"
 
-// readSeedCSV reads a calibration CSV: a header expert,question,
-// realization, optionally lower,upper, followed by quantile columns qNN in
-// increasing order (usually q05, q50, q95); then one row per expert and
-// question.
-// Lines starting with # are comments. Errors name the row (the line in
-// the file), the column and the rule.
 // maxSeedInput bounds a calibration CSV: 200 experts answering 100
 // calibration questions take about 1.2 MB.
 const maxSeedInput = 4 << 20
 
+// readSeedCSV reads a calibration CSV: a header expert,question,
+// realization, optionally lower,upper, followed by quantile columns qNN in
+// increasing order (usually q05, q50, q95); then one row per expert and
+// question.
+// Lines starting with # are comments; a byte order mark and lines ended
+// by a carriage return alone are read as the answer sheet reads them.
+// Errors name the row (the line in the file), the column and the rule.
 func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	// A file is read whole only up to maxSeedInput: it read any file
 	// whole (a 200 MB line took gigabytes and crashed).
