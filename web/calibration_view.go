@@ -82,19 +82,11 @@ func alphaSentence(alpha float64, logAlpha *float64, rule string) string {
 		"scored as if it were an expert, does best on these questions. Experts whose calibration score is below it get weight 0."
 }
 
-// typedCutOff writes a fixed cut-off as typed, in plain decimals, unless
-// that takes more than a line's worth of figures: 1e-320 in plain
-// decimals is 320 zeros, one unbroken line off the screen. It is then
-// written in the shortest exponent form that reads back to it.
-func typedCutOff(alpha float64) string {
-	if alpha == 0 {
-		return "0" // not "-0", as -0 typed reads
-	}
-	if s := input.Typed(alpha, false); len(s) <= 20 {
-		return s
-	}
-	return strconv.FormatFloat(alpha, 'g', -1, 64)
-}
+// typedCutOff writes a fixed cut-off as typed (input.Typed): in plain
+// decimals unless that takes more than a line's worth of figures (1e-320
+// in plain decimals is 320 zeros, one unbroken line off the screen), and
+// -0 as 0.
+func typedCutOff(alpha float64) string { return input.Typed(alpha, false) }
 
 // recordLabels are "Q1 quantity" labels of a record's questions by ID.
 func recordLabels(r record.Record) map[int64]string {
