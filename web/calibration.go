@@ -166,10 +166,7 @@ func alphaOf(f *Form) *float64 {
 		f.set("alpha", string(elicit.RuleUnitInterval))
 		return nil
 	}
-	if v == 0 {
-		v = 0 // -0 typed is the cut-off 0, not a -0 stored and exported
-	}
-	return &v
+	return &v // a typed -0 is 0 already (input.Number)
 }
 
 // showCalibration reads the workshop and renders the page. A bad cut-off
