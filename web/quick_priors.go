@@ -97,8 +97,13 @@ func valueOf(f *Form, q workshop.Question, name string) float64 {
 // percentage with its sign (90%), as a room says it and as the
 // four-value answer takes its confidence. A plain 90 stays refused by
 // the coverage's rule: it may be a slip for either.
-func coverageOf(f *Form) float64 {
-	const name = "c_coverage"
+func coverageOf(f *Form) float64 { return fractionOf(f, "c_coverage") }
+
+// fractionOf reads a probability or a proportion typed as a fraction
+// (0.95), or as a percentage with its sign (95%), for the coverage and
+// the study plan's fields alike; a plain 95 is left to the field's own
+// rule, which refuses it.
+func fractionOf(f *Form, name string) float64 {
 	if rest, ok := strings.CutSuffix(strings.TrimSpace(f.Value(name)), "%"); ok {
 		v, err := input.Percent(name, rest)
 		f.failField(name, err)

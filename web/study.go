@@ -377,9 +377,9 @@ func planStudy(ctx context.Context, p planView) planView {
 			}
 		}
 		g := elicit.SuccessCriterion{
-			Threshold:  f.Float("threshold"),
+			Threshold:  fractionOf(f, "threshold"),
 			Direction:  elicit.Direction(f.Choice("direction", "", string(elicit.DirectionBelow), string(elicit.DirectionAbove))),
-			Confidence: f.Float("confidence"),
+			Confidence: fractionOf(f, "confidence"),
 		}
 		if f.OK() {
 			f.Fail(g.Validate(), nil)
@@ -403,15 +403,17 @@ func planStudy(ctx context.Context, p planView) planView {
 		// next plans without a sample size instead of being refused.
 		level := defaultPlanLevel
 		if strings.TrimSpace(f.Value("level")) != "" {
-			level = f.Float("level")
+			level = fractionOf(f, "level")
 		}
 		g := elicit.SampleSizeGoal{
-			Length:    f.Float("length"),
+			Length:    fractionOf(f, "length"),
 			Level:     level,
 			Criterion: elicit.Criterion(f.Choice("criterion", "", string(elicit.CriterionALC), string(elicit.CriterionACC), string(elicit.CriterionWOC))),
 			Interval:  elicit.IntervalKind(f.Choice("interval", "", string(elicit.IntervalEqual), string(elicit.IntervalHPD))),
 		}
-		g.Trim, _ = f.OptionalFloat("woc_trim")
+		if strings.TrimSpace(f.Value("woc_trim")) != "" {
+			g.Trim = fractionOf(f, "woc_trim")
+		}
 		if f.OK() {
 			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
 		}

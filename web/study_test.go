@@ -1069,3 +1069,31 @@ func TestStudySaysAnIntervalEndHeldAsABound(t *testing.T) {
 		t.Errorf("the report of posterior Beta(1e-5, 20.99999) does not say its interval's ends are held as 0")
 	}
 }
+
+// The plan's probabilities and proportions take a % sign, as the quick
+// priors' coverage beside them does ("90%" taken there, "95%" refused
+// here as not a plain decimal number): the same plan either way.
+func TestStudyPlanTakesPercentSigns(t *testing.T) {
+	prior := elicit.Beta{Alpha: 2, Beta: 38}
+	plan := func(v url.Values) planView {
+		form := newForm(v)
+		p := planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+		if !form.OK() || !p.Ran {
+			t.Fatalf("%v refused: %v", v, form.Errors)
+		}
+		return p
+	}
+	fractions := plan(url.Values{"prior": {"0"}, "trials": {"100"}, "threshold": {"0.08"}, "direction": {"below"}, "confidence": {"0.95"},
+		"length": {"0.1"}, "level": {"0.95"}, "criterion": {"woc"}, "interval": {"equal"}, "woc_trim": {"0.05"}})
+	percents := plan(url.Values{"prior": {"0"}, "trials": {"100"}, "threshold": {"8%"}, "direction": {"below"}, "confidence": {"95%"},
+		"length": {"10%"}, "level": {"95 %"}, "criterion": {"woc"}, "interval": {"equal"}, "woc_trim": {"5%"}})
+	if *fractions.Assure != *percents.Assure || fractions.SizeRes.N != percents.SizeRes.N {
+		t.Errorf("with %% signs: assurance %+v, n %d; as fractions %+v, n %d", *percents.Assure, percents.SizeRes.N, *fractions.Assure, fractions.SizeRes.N)
+	}
+	// A plain 95 stays refused, as the coverage's plain 90 is.
+	form := newForm(url.Values{"prior": {"0"}, "trials": {"100"}, "threshold": {"0.08"}, "direction": {"below"}, "confidence": {"95"}})
+	planStudy(context.Background(), planView{Form: form, Choices: []priorChoice{{Value: "0", Prior: prior}}})
+	if form.Error("confidence") == "" {
+		t.Error("a plain 95 is taken as the confidence")
+	}
+}
