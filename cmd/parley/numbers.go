@@ -142,6 +142,17 @@ func checkFormat(format string) error {
 // number parses the value of flag --field.
 func number(field, raw string) (float64, error) { return input.Number(field, raw) }
 
+// fraction parses a probability or a proportion given to flag --field:
+// a fraction (0.95), or a percentage with its sign (95%), as the web's
+// coverage and study plan take it; a plain 95 is left to the flag's own
+// rule, which refuses it.
+func fraction(field, raw string) (float64, error) {
+	if rest, ok := strings.CutSuffix(strings.TrimSpace(raw), "%"); ok {
+		return input.Percent(field, rest)
+	}
+	return number(field, raw)
+}
+
 // numbers parses a comma-separated list given to flag --field.
 func numbers(field, raw string) ([]float64, error) { return input.Numbers(field, raw) }
 

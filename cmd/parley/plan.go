@@ -112,11 +112,11 @@ func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&a.alpha, "alpha", "", "prior alpha, from 1e-6 to 1e7 (the accuracy envelope)")
 	fs.StringVar(&a.beta, "beta", "", "prior beta, from 1e-6 to 1e7")
 	fs.StringVar(&a.trials, "trials", "", fmt.Sprintf("planned number of trials (1 to %d)", elicit.MaxPredictiveTrials))
-	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1")
+	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1 (0.08, or 8%)")
 	fs.StringVar(&a.direction, "direction", "", "assurance: below (success when P(θ < T | data) ≥ G) or above (P(θ > T | data) ≥ G)")
-	fs.StringVar(&a.confidence, "confidence", "", "assurance: the posterior probability G the criterion asks for, strictly between 0 and 1")
-	fs.StringVar(&a.length, "length", "", "sample size: the interval length l, strictly between 0 and 1")
-	fs.StringVar(&a.level, "level", "0.95", "sample size: the coverage of the credible intervals")
+	fs.StringVar(&a.confidence, "confidence", "", "assurance: the posterior probability G the criterion asks for, strictly between 0 and 1 (0.95, or 95%)")
+	fs.StringVar(&a.length, "length", "", "sample size: the interval length l, strictly between 0 and 1 (0.04, or 4%)")
+	fs.StringVar(&a.level, "level", "0.95", "sample size: the coverage of the credible intervals (0.95, or 95%)")
 	fs.StringVar(&a.criterion, "criterion", "alc", "sample size: alc (average length), acc (average coverage) or woc (worst outcome)")
 	fs.StringVar(&a.interval, "interval", "equal", "sample size: equal (equal-tailed) or hpd (highest posterior density) intervals")
 	fs.StringVar(&a.trim, "woc-trim", "0", "sample size, woc: predictive probability of unlikely outcomes the worst outcome may ignore, in [0, 1)")
@@ -202,10 +202,10 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	var goal *elicit.SuccessCriterion
 	if a.set["threshold"] {
 		g := elicit.SuccessCriterion{Direction: elicit.Direction(a.direction)}
-		if g.Threshold, err = number("threshold", a.threshold); err != nil {
+		if g.Threshold, err = fraction("threshold", a.threshold); err != nil {
 			return planOutput{}, err
 		}
-		if g.Confidence, err = number("confidence", a.confidence); err != nil {
+		if g.Confidence, err = fraction("confidence", a.confidence); err != nil {
 			return planOutput{}, err
 		}
 		if err := g.Validate(); err != nil {
@@ -216,13 +216,13 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	var size *elicit.SampleSizeGoal
 	if a.set["length"] {
 		g := elicit.SampleSizeGoal{Criterion: elicit.Criterion(a.criterion), Interval: elicit.IntervalKind(a.interval)}
-		if g.Length, err = number("length", a.length); err != nil {
+		if g.Length, err = fraction("length", a.length); err != nil {
 			return planOutput{}, err
 		}
-		if g.Level, err = number("level", a.level); err != nil {
+		if g.Level, err = fraction("level", a.level); err != nil {
 			return planOutput{}, err
 		}
-		if g.Trim, err = number("woc-trim", a.trim); err != nil {
+		if g.Trim, err = fraction("woc-trim", a.trim); err != nil {
 			return planOutput{}, err
 		}
 		if err := g.Validate(); err != nil {

@@ -237,7 +237,7 @@ func TestPlanBadInput(t *testing.T) {
 		{"confidence alone", with("--confidence", "0.9"), []string{"--threshold", "is required with --confidence"}},
 		{"direction alone", with("--direction", "below"), []string{"--threshold", "is required with --direction"}},
 		{"threshold one", with("--threshold", "1", "--direction", "below", "--confidence", "0.95"), []string{"threshold", string(elicit.RuleProbOpen)}},
-		{"threshold syntax", with("--threshold", "8%", "--direction", "below", "--confidence", "0.95"), []string{"threshold", "plain decimal"}},
+		{"threshold syntax", with("--threshold", "0,08", "--direction", "below", "--confidence", "0.95"), []string{"threshold", "plain decimal"}},
 		{"direction unknown", with("--threshold", "0.08", "--direction", "less", "--confidence", "0.95"), []string{"direction", string(elicit.RuleUnknown)}},
 		{"confidence percent", with("--threshold", "0.08", "--direction", "below", "--confidence", "95"), []string{"confidence", string(elicit.RuleProbOpen)}},
 		{"confidence NaN", with("--threshold", "0.08", "--direction", "below", "--confidence", "NaN"), []string{"confidence", "plain decimal"}},

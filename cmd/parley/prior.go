@@ -194,12 +194,7 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 		in.Low, in.High = ends[0], ends[1]
 		// A fraction (0.9), or a percentage with its sign (90%), as the
 		// quick priors page takes it; a plain 90 stays refused.
-		if rest, ok := strings.CutSuffix(strings.TrimSpace(a.coverage), "%"); ok {
-			in.Coverage, err = input.Percent("coverage", rest)
-		} else {
-			in.Coverage, err = number("coverage", a.coverage)
-		}
-		if err != nil {
+		if in.Coverage, err = fraction("coverage", a.coverage); err != nil {
 			return priorOutput{}, err
 		}
 	}

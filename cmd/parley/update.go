@@ -59,7 +59,7 @@ func runUpdate(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	betaArg := fs.String("beta", "", "prior beta, from 1e-6 to 1e7")
 	sArg := fs.String("successes", "", "observed successes (whole number, at most --trials)")
 	nArg := fs.String("trials", "", "observed trials (whole number, 0 to 1000000)")
-	levelArg := fs.String("level", "0.95", "credible level of the intervals, strictly between 0 and 1")
+	levelArg := fs.String("level", "0.95", "credible level of the intervals, strictly between 0 and 1 (0.95, or 95%)")
 	format := fs.String("format", "text", "output: text or json")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
@@ -99,7 +99,7 @@ func updateCommand(alphaArg, betaArg, sArg, nArg, levelArg, format string) (upda
 	if err != nil {
 		return updateOutput{}, err
 	}
-	level, err := number("level", levelArg)
+	level, err := fraction("level", levelArg)
 	if err != nil {
 		return updateOutput{}, err
 	}
