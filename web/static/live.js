@@ -5,7 +5,8 @@
 // (text/event-stream, same origin). On each change the page is fetched
 // again (at data-live-page, else the address bar's address) and every
 // element marked data-live is replaced by its namesake (same id) in the
-// fresh page, unless the facilitator is typing inside it. Changes
+// fresh page, unless the facilitator is at work in a form inside it
+// (see atWork); the focus stays where it was (see replace). Changes
 // arriving close together are gathered into one fetch.
 (function () {
   "use strict";
@@ -23,10 +24,63 @@
   var busy = false;
   var again = false;
 
-  function busyTyping(el) {
+  // atWork says the facilitator is at work in a form inside el: the focus
+  // on one of its fields or buttons, or a field changed from what the
+  // page came with (words typed, then Tab to the button, or a click
+  // elsewhere). Such a part is left as it is; replacing it threw the
+  // typed words away and dropped the focus to the top of the page.
+  function atWork(el) {
     var a = document.activeElement;
-    return a && a !== document.body && el.contains(a) &&
-      (a.tagName === "INPUT" || a.tagName === "TEXTAREA" || a.tagName === "SELECT");
+    if (a && a !== document.body && el.contains(a) &&
+      (a.tagName === "INPUT" || a.tagName === "TEXTAREA" || a.tagName === "SELECT" || a.tagName === "BUTTON")) {
+      return true;
+    }
+    return Array.prototype.some.call(el.querySelectorAll("input, textarea, select"), function (f) {
+      if (f.type === "hidden") { return false; }
+      if (f.type === "checkbox" || f.type === "radio") { return f.checked !== f.defaultChecked; }
+      if (f.tagName === "SELECT") {
+        return Array.prototype.some.call(f.options, function (o) { return o.selected !== o.defaultSelected; });
+      }
+      return f.value !== f.defaultValue;
+    });
+  }
+
+  // A part left as it was is brought up to date once the focus moves
+  // on (a part still holding changed fields is left again).
+  var held = false;
+  document.addEventListener("focusout", function () {
+    if (held) {
+      held = false;
+      schedule();
+    }
+  });
+
+  // focusable lists what the keyboard can reach in el, in page order.
+  var reachable = "a[href], button, input, select, textarea, summary, [tabindex]";
+  function focusable(el) {
+    var all = Array.prototype.slice.call(el.querySelectorAll(reachable));
+    if (el.matches(reachable)) { all.unshift(el); }
+    return all;
+  }
+
+  // replace puts fresh in el's place. Where the focus was inside el (a
+  // link, the scrolling table), it is put on the same place in fresh: by
+  // its id, else by its rank among what the keyboard reaches; replacing
+  // dropped it to the top of the page, and the next Tab started over.
+  function replace(el, fresh) {
+    var a = document.activeElement;
+    var rank = -1;
+    var id = "";
+    if (a && a !== document.body && el.contains(a)) {
+      id = a.id;
+      rank = focusable(el).indexOf(a);
+    }
+    el.replaceWith(fresh);
+    if (rank < 0 && !id) { return; }
+    var back = (id && document.getElementById(id)) || focusable(fresh)[rank];
+    if (back && fresh.contains(back)) {
+      back.focus({ preventScroll: true });
+    }
   }
 
   // A fetch of the page that failed (the server busy or restarting, the
@@ -60,8 +114,10 @@
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
           var fresh = el.id && doc.getElementById(el.id);
-          if (fresh && !busyTyping(el)) {
-            el.replaceWith(document.importNode(fresh, true));
+          if (fresh && atWork(el)) {
+            held = true;
+          } else if (fresh) {
+            replace(el, document.importNode(fresh, true));
           }
         });
         wait = failedWait;
