@@ -3,9 +3,11 @@ package e2e
 import (
 	"net/http"
 	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
 )
 
 // TestRefusedAnswerFocusesTheFirstMarkedField: a refused save comes back
@@ -58,4 +60,49 @@ func TestRefusedAnswerFocusesTheFirstMarkedField(t *testing.T) {
 	shots.take(fac, "refused-focus-entry-390")
 	fac.viewport(1366, 768, false)
 	shots.take(fac, "refused-focus-entry-1366")
+}
+
+// TestRefusedChipsFocusTheBoard: chips placed in one bin, by keyboard,
+// and saved: the refusal ("Put chips in at least three bins") marks no
+// box, so the page came back at its top with the focus on nothing, the
+// message a screen below on a phone, and Tab started again from the
+// masthead. The board's first column has the focus now, described by the
+// message, both in view.
+func TestRefusedChipsFocusTheBoard(t *testing.T) {
+	g := newDeviceRig(t)
+	br := startBrowser(t)
+	carmen := br.person("Carmen (keyboard only)")
+	link := g.links["Carmen Ruiz (invented)"]
+	shots := newScreenshots(t)
+	for _, w := range []int64{390, 1366} {
+		carmen.viewport(w, 844, w < 600)
+		carmen.open(link + "q/" + strconv.FormatInt(g.qs[2].ID, 10))
+		carmen.do("focus the board", chromedp.Focus(chromedp.CSS(`.chips-bin[tabindex="0"]`)))
+		for k := 0; k < 24; k++ {
+			carmen.do("place a chip", chromedp.KeyEvent(kb.ArrowUp))
+		}
+		carmen.do("to the save button", chromedp.Focus(chromedp.CSS(`form.answer-form button[formaction$="/save"]`)))
+		if st := carmen.load("save every chip in one bin", chromedp.KeyEvent(kb.Enter)); st != http.StatusUnprocessableEntity {
+			t.Fatalf("at %d px: status %d, want 422", w, st)
+		}
+		carmen.waitFor("the board", `!document.querySelector(".chips-board").hidden`)
+		got := eval[[]string](carmen, "the focus", `(() => {
+			const e = document.activeElement, r = e.getBoundingClientRect();
+			const by = (e.getAttribute("aria-describedby") || "").split(" ").map(id => document.getElementById(id)).filter(x => x).map(x => x.innerText).join(" ");
+			const m = document.querySelector(".answer-form .form-error").getBoundingClientRect();
+			const seen = b => b.top >= -1 && b.bottom <= innerHeight + 1;
+			return [e.className || e.tagName, String(seen(r) && seen(m)), by, r.top + "-" + r.bottom + ", message " + m.top + "-" + m.bottom + ", screen " + innerHeight];
+		})()`)
+		if got[0] != "chips-bin" {
+			t.Errorf("at %d px after a refused save of chips the focus is on %s, want the board's column", w, got[0])
+			continue
+		}
+		if got[1] != "true" {
+			t.Errorf("at %d px the focused column or the message is out of view (column %s)", w, got[3])
+		}
+		if !strings.Contains(got[2], "at least three bins") {
+			t.Errorf("at %d px the focused column is described by %q, want the refusal", w, got[2])
+		}
+		shots.take(carmen, "refused-chips-focus-"+strconv.FormatInt(w, 10))
+	}
 }

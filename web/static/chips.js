@@ -184,4 +184,22 @@
   layout();
   draw();
   window.addEventListener("resize", function () { layout(); draw(); });
+
+  // A save refused for the chips as a whole (all in one or two bins)
+  // marks no box, so nothing had the focus: the page stood at its top,
+  // the message a screen below on a phone, and the keyboard started over
+  // from the masthead. The board's column takes the focus, the message
+  // read with it and in view, so the chips can be moved at once.
+  var refusal = form.querySelector(".form-error");
+  var focused = document.activeElement;
+  if (refusal && !readonly && (!focused || focused === document.body)) {
+    if (!refusal.id) { refusal.id = "chips-refusal"; }
+    columns.forEach(function (c) {
+      c.col.setAttribute("aria-describedby", refusal.id);
+    });
+    // The message stands under the board: both in view, the message at
+    // the screen's foot.
+    columns[0].col.focus({ preventScroll: true });
+    refusal.scrollIntoView({ block: "end" });
+  }
 })();
