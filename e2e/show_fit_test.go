@@ -10,6 +10,7 @@ import (
 	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
+	"github.com/chromedp/chromedp/kb"
 )
 
 // TestShowTheFitStaysOnThePage: an expert on a phone types her values,
@@ -100,5 +101,45 @@ func (p *person) back(t *testing.T) {
 	}))
 	if err := p.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestShowTheFitKeepsTheFocusInView: an expert by keyboard types her
+// values, Tabs to "Show the fit" and presses Space. The fit was scrolled
+// to the screen's top, and the button holding the focus, just above it,
+// out of view: the focus could not be seen. The button and the fit's
+// top are both in view now, at 390 and 1366 px.
+func TestShowTheFitKeepsTheFocusInView(t *testing.T) {
+	g := newDeviceRig(t)
+	br := startBrowser(t)
+	carmen := br.person("Carmen (keyboard only)")
+	link := g.links["Carmen Ruiz (invented)"]
+	for _, w := range []int64{390, 1366} {
+		carmen.viewport(w, 844, w < 600)
+		carmen.open(link + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
+		typeValues(carmen, "0.03", "0.07", "0.16")
+		carmen.waitFor("the live fit", `document.querySelectorAll("#preview svg.chart-wide circle.stated").length === 3 && !document.querySelector("#preview[aria-busy=true]")`)
+		// From the last value box: Tab past the reasoning to the button.
+		carmen.do("Tab to the reasoning", chromedp.KeyEvent(kb.Tab))
+		carmen.do("Tab to Show the fit", chromedp.KeyEvent(kb.Tab))
+		if got := eval[string](carmen, "the focus", `document.activeElement.innerText || document.activeElement.tagName`); got != "Show the fit" {
+			t.Fatalf("at %d px two Tabs from the last value reach %q, want Show the fit", w, got)
+		}
+		eval[bool](carmen, "forget the last fit", `document.getElementById("preview").removeAttribute("data-updated"), true`)
+		carmen.do("press Space", chromedp.KeyEvent(" "))
+		carmen.waitFor("the fit", `document.getElementById("preview").hasAttribute("data-updated") && !document.querySelector("#preview[aria-busy=true]")`)
+		got := eval[[]float64](carmen, "where the button and the fit stand", `(() => {
+			const b = document.activeElement.getBoundingClientRect(), p = document.getElementById("preview").getBoundingClientRect();
+			return [b.top, b.bottom, p.top, innerHeight, document.activeElement.innerText === "Show the fit" ? 1 : 0];
+		})()`)
+		if got[4] != 1 {
+			t.Errorf("at %d px Show the fit lost the focus", w)
+		}
+		if got[0] < -1 || got[1] > got[3]+1 {
+			t.Errorf("at %d px the focused Show the fit stands at %.0f-%.0f px of a %.0f px screen: out of view", w, got[0], got[1], got[3])
+		}
+		if got[2] < -1 || got[2] > got[3]/2 {
+			t.Errorf("at %d px the fit's top stands at %.0f px of a %.0f px screen; want it in view", w, got[2], got[3])
+		}
 	}
 }

@@ -128,7 +128,7 @@
         target.innerHTML = html;
         target.setAttribute("data-updated", String(ticket));
         if (asked) {
-          target.scrollIntoView({ block: "start" });
+          bringIntoView();
         }
       }).catch(function () {
         // The form still works by plain post; leave the last picture, or,
@@ -141,6 +141,21 @@
           target.removeAttribute("aria-busy");
         }
       });
+    }
+    // bringIntoView scrolls the fit to the screen's top; where the
+    // focus is on a button just above it (Show the fit, by keyboard or
+    // tap), to the button instead, so the focus stays in view: scrolled
+    // to the fit, the focused button stood just above the screen.
+    function bringIntoView() {
+      var a = document.activeElement;
+      if (a && a.tagName === "BUTTON" && form.contains(a)) {
+        var gap = target.getBoundingClientRect().top - a.getBoundingClientRect().top;
+        if (gap >= 0 && gap < window.innerHeight / 3) {
+          a.scrollIntoView({ block: "start" });
+          return;
+        }
+      }
+      target.scrollIntoView({ block: "start" });
     }
     form.addEventListener("input", function (ev) {
       if (ev.target && ev.target.name === "reason") {
