@@ -106,3 +106,51 @@ func TestRefusedChipsFocusTheBoard(t *testing.T) {
 		shots.take(carmen, "refused-chips-focus-"+strconv.FormatInt(w, 10))
 	}
 }
+
+// TestRefusedFacilitatorFormsFocusTheMarkedField: the facilitator, by
+// keyboard, sent the weights without a reason, the agreed prior without
+// a rationale, and the next round without a reason. Each refused form
+// came back as a page shown from its top with the focus on nothing, the
+// marked field two or three screens down. The marked field has the
+// focus now, in view with its message.
+func TestRefusedFacilitatorFormsFocusTheMarkedField(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator (keyboard only)")
+	signIn(t, site, fac)
+	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
+	refused := func(w int64, what, page, button, want string) {
+		t.Helper()
+		fac.open(page)
+		fac.do("to "+what, chromedp.Focus(chromedp.CSS(button)))
+		if st := fac.load("send "+what, chromedp.KeyEvent(kb.Enter)); st != http.StatusUnprocessableEntity {
+			t.Fatalf("at %d px %s: status %d, want 422", w, what, st)
+		}
+		got := eval[[]string](fac, "the focus", `(() => {
+			const e = document.activeElement, f = e.closest(".field") || e, r = f.getBoundingClientRect();
+			const by = (e.getAttribute("aria-describedby") || "").split(" ").map(id => document.getElementById(id)).filter(x => x).map(x => x.innerText).join(" ");
+			return [e.id || e.tagName, String(r.top >= -1 && r.bottom <= innerHeight + 1), by];
+		})()`)
+		if got[0] != want {
+			t.Errorf("at %d px %s refused: the focus is on %s, want #%s", w, what, got[0], want)
+			return
+		}
+		if got[1] != "true" {
+			t.Errorf("at %d px %s refused: #%s has the focus but its field is out of view", w, what, want)
+		}
+		if !strings.Contains(got[2], "required") {
+			t.Errorf("at %d px %s refused: #%s is described by %q, not its message", w, what, want, got[2])
+		}
+	}
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 844, w < 600)
+		refused(w, "the weights without a reason", panel, `#pool button[type=submit]`, "f-reason")
+		refused(w, "the agreed prior without a rationale", panel, `#agreed button[type=submit]`, "f-rationale")
+	}
+	fac.open(d.url)
+	fac.load("close round 1", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`)))
+	for _, w := range []int64{390, 1366} {
+		fac.viewport(w, 844, w < 600)
+		refused(w, "the next round without a reason", d.url, `#rounds form button[type=submit]`, "f-reason")
+	}
+}

@@ -21,6 +21,23 @@
 //    above a map that fits. A map with a cut-off that leaves experts out
 //    (data-show-cut) is moved once, so that its label is in view and as
 //    much of the map right of it (the experts who earn weight) as fits.
+// 3. A refused form comes back as a new page, shown from its top with the
+//    focus on nothing: the facilitator's weights, agreed prior or round
+//    form, a screen or more down the page, was out of sight, and the
+//    keyboard started again from the masthead. The first field the page
+//    marks takes the focus, its message read with it (aria-describedby),
+//    and the field with its label and message is brought to the middle of
+//    the screen. (The answer form's own script does the same for it.)
+(function () {
+  "use strict";
+  var first = document.querySelector(".field-invalid input:not([type=hidden]), .field-invalid select, .field-invalid textarea");
+  if (!first || typeof first.focus !== "function") { return; }
+  var a = document.activeElement;
+  if (a && a !== document.body) { return; }
+  first.focus({ preventScroll: true });
+  (first.closest(".field") || first).scrollIntoView({ block: "center" });
+})();
+
 (function () {
   "use strict";
   Array.prototype.forEach.call(document.querySelectorAll("textarea[data-max-chars]"), function (ta) {
