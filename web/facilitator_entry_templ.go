@@ -340,7 +340,7 @@ func entryPageView(v entryView) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		if !(v.Form.finalWithoutAnswer() && v.Form.Preview == nil) {
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 29, "<div id=\"preview\" class=\"preview\" aria-live=\"polite\">")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 29, "<div id=\"preview\" class=\"preview\">")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -79,6 +79,26 @@
     }
     var timer = null;
     var latest = 0;
+    // said is the fit in brief for a screen reader, in a line of its own:
+    // the preview was a live region itself, read out whole (read-backs,
+    // the picture's descriptions, its axes' labels) at every pause in
+    // typing and every chip placed.
+    var said = document.createElement("p");
+    said.className = "visually-hidden";
+    said.id = target.id + "-said";
+    said.setAttribute("aria-live", "polite");
+    target.insertAdjacentElement("afterend", said);
+    // brief is what stops the fit, or what the values imply taken
+    // together (the last read-back) and any warning.
+    function brief() {
+      var problem = target.querySelector(".preview-problem");
+      if (problem) { return problem.textContent.replace(/\s+/g, " ").trim(); }
+      var parts = [];
+      var backs = target.querySelectorAll(".readbacks li");
+      if (backs.length) { parts.push(backs[backs.length - 1].textContent); }
+      Array.prototype.forEach.call(target.querySelectorAll(".warnings li"), function (w) { parts.push(w.textContent); });
+      return parts.join(" ").replace(/\s+/g, " ").trim();
+    }
     // shown is the "Show the fit" button (the form's first, which Enter in
     // a value box presses), when it can be pressed.
     var shown = form.querySelector("button[type=submit]:not([formaction]):not([disabled])");
@@ -126,6 +146,7 @@
           return;
         }
         target.innerHTML = html;
+        said.textContent = brief();
         target.setAttribute("data-updated", String(ticket));
         if (asked) {
           bringIntoView();
