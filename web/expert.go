@@ -180,6 +180,21 @@ type expertQuestionInfo struct {
 	Revealed string
 }
 
+// refusedSummary heads the refused form: the marked fields to correct,
+// or, where no field is marked (chips refused as a whole), the message
+// above it.
+func (af answerForm) refusedSummary() string {
+	if af.ReasonError != "" {
+		return nothingSavedSummary
+	}
+	for _, f := range af.Fields {
+		if f.Error != "" {
+			return nothingSavedSummary
+		}
+	}
+	return nothingSavedAsSaid
+}
+
 // answerForm is the judgement form in the question's format, with the
 // values as typed and any message beside its field.
 type answerForm struct {

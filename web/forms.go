@@ -22,6 +22,10 @@ const ruleChoice elicit.Rule = "must be one of the offered choices"
 // nothingSavedSummary heads a form refused for what was typed in it.
 const nothingSavedSummary = "Nothing was saved. Correct the marked fields and send again."
 
+// nothingSavedAsSaid heads an answer refused as a whole (chips in too few
+// bins), which marks no field.
+const nothingSavedAsSaid = "Nothing was saved. Put right what is said above and send again."
+
 // FormErrors maps a form field's name to the message shown beside it.
 // The key "" holds a message about the form as a whole.
 type formErrors map[string]string
