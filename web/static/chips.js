@@ -5,9 +5,10 @@
 // question's range, a stack of chips in each that grows and shrinks as
 // chips are placed and taken away, and the count of chips left. A chip
 // is placed by tapping or clicking the column (or its + button) and taken
-// away by tapping a chip (or the − button). By keyboard: Tab reaches each
-// column; + or ↑ places a chip, − or ↓ takes one away, ← and → move to the
-// neighbouring bin. Each change is announced. The boxes stay the form's
+// away by tapping a chip (or the − button). By keyboard: Tab reaches the
+// board, at one column; + or ↑ places a chip, − or ↓ takes one away, ←
+// and → move to the neighbouring bin, as the board says while it has the
+// focus. Each change is announced. The boxes stay the form's
 // values, so saving, the live preview and the plain form are unchanged.
 //
 // Where the columns would be too narrow to tap (many bins on a phone:
@@ -45,7 +46,14 @@
   grid.className = "chips-grid";
   grid.setAttribute("role", "group");
   grid.setAttribute("aria-label", "Your chips, one column per range of values");
-  grid.setAttribute("aria-describedby", "chips-hint");
+  grid.setAttribute("aria-describedby", readonly ? "chips-hint" : "chips-hint chips-keys");
+  // The keys, said under the board while it has the focus and read with
+  // its columns: Tab reaches the board once (its + and − buttons are for
+  // tapping), and nothing said how to place chips from there.
+  var keys = document.createElement("p");
+  keys.className = "chips-keys hint";
+  keys.id = "chips-keys";
+  keys.textContent = "Keys: ↑ or + places a chip in the bin with the focus, ↓ or − takes one away, ← and → move to the next bin.";
   var columns = [];
 
   inputs.forEach(function (inp, i) {
@@ -176,6 +184,7 @@
   board.appendChild(counter);
   board.appendChild(grid);
   board.appendChild(status);
+  if (!readonly) { board.appendChild(keys); }
   board.hidden = false;
   form.classList.add("chips-enhanced");
   // Typing in a box (still there for screen readers that prefer it)
