@@ -54,9 +54,9 @@ const maxStreams = 256
 var errTooManyStreams = errors.New("too many open event streams")
 
 // liveHub fans a workshop's changes out to its open streams. Publishing
-// never blocks: each stream has room for one pending event, and a stream
-// that already has one pending misses nothing by skipping another, since
-// the browser fetches the whole page on either.
+// never blocks: each stream has room for one pending event, and a newer
+// change takes the place of one pending, since the browser fetches the
+// whole page on either and the newer carries the latest count.
 type liveHub struct {
 	mu     sync.Mutex
 	subs   map[int64]map[chan liveEvent]struct{}
@@ -127,7 +127,17 @@ func (h *liveHub) publishEvent(workshop int64, ev liveEvent) {
 	for ch := range h.subs[workshop] {
 		select {
 		case ch <- ev:
-		default: // one is pending already
+		default:
+			// One is pending already: this newer change takes its
+			// place, so the stream tells the latest count (a pending
+			// one's older count, kept by live-worker.js, let a tab
+			// joining later miss this change). Publishers hold h.mu,
+			// so the place just emptied is this one's.
+			select {
+			case <-ch:
+			default:
+			}
+			ch <- ev
 		}
 	}
 }
