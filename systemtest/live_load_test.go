@@ -314,8 +314,8 @@ func runLiveRoom(tb testing.TB, size liveSize) liveRoomResult {
 		}()
 	}
 
-	// Stuck clients: a stream opened and never read, and a page asked for
-	// and never read, each on a connection with the smallest receive
+	// Stuck clients: a stream opened and never read, and a panel asked
+	// for and never read, each on a connection with the smallest receive
 	// buffer, as a laptop gone to sleep mid-stream leaves one.
 	var stuck []net.Conn
 	cookie := session.Get("Cookie")
@@ -331,6 +331,21 @@ func runLiveRoom(tb testing.TB, size liveSize) liveRoomResult {
 			fmt.Fprintf(conn, "GET %s HTTP/1.1\r\nHost: %s\r\nCookie: %s\r\n\r\n", path, ln.Addr().String(), cookie)
 			stuck = append(stuck, conn)
 		}
+	}
+
+	// Stuck experts, as many as the server serves experts at once: each
+	// sends a save's headers and never its body (a phone that left the
+	// Wi-Fi mid-save). Had each taken a request turn (turns.go) before
+	// its body came, no other expert could save.
+	for i := 0; i < runtime.GOMAXPROCS(0) && size.stuck > 0; i++ {
+		conn, err := net.Dial("tcp", ln.Addr().String())
+		if err != nil {
+			tb.Fatal(err)
+		}
+		ex := ws.experts[i%len(ws.experts)]
+		fmt.Fprintf(conn, "POST %s HTTP/1.1\r\nHost: %s\r\nOrigin: %s\r\nContent-Type: application/x-www-form-urlencoded\r\nContent-Length: 200\r\n\r\nvalues%%5B0%%5D=0.1",
+			savePath(ex.token, ws.questions[0].ID), ln.Addr().String(), base)
+		stuck = append(stuck, conn)
 	}
 
 	// The experts: each answers every question, then revises every one,
