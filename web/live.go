@@ -168,6 +168,15 @@ func (s *Server) EndStreams() { s.live.close() }
 // browser and anything between notice a dead connection.
 const heartbeat = 20 * time.Second
 
+// streamWriteLimit is how long one write to a stream may wait for its
+// client. A client that reads nothing (a tab frozen by its browser, a
+// laptop asleep behind a connection that stays up) held the stream's
+// goroutine, its connection and one of maxStreams places for as long as
+// the connection lived; now the stream ends, and a browser that wakes
+// opens it again and fetches what changed (the event hello). A variable
+// for tests.
+var streamWriteLimit = time.Minute
+
 // liveEvents streams the workshop's changes to the signed-in facilitator.
 // It is mounted behind requireFacilitatorStream: anyone else gets 404.
 func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
@@ -187,8 +196,14 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	}
 	defer cancel()
 	rc := http.NewResponseController(w)
-	// A stream outlives the server's write timeout by design.
-	_ = rc.SetWriteDeadline(time.Time{})
+	// A stream outlives the server's write timeout by design; each write
+	// has streamWriteLimit instead.
+	send := func(format string, args ...any) bool {
+		_ = rc.SetWriteDeadline(time.Now().Add(streamWriteLimit))
+		_, err := fmt.Fprintf(w, format, args...)
+		return err == nil && rc.Flush() == nil
+	}
+	_ = rc.SetWriteDeadline(time.Now().Add(streamWriteLimit))
 	h := w.Header()
 	h.Set("Content-Type", "text/event-stream; charset=utf-8")
 	h.Set("X-Accel-Buffering", "no")
@@ -196,10 +211,7 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	hello, _ := json.Marshal(struct {
 		Version string `json:"version"`
 	}{version})
-	if _, err := fmt.Fprintf(w, "retry: 2000\n: Parley live changes of workshop %d\n\nevent: hello\ndata: %s\n\n", ws.ID, hello); err != nil {
-		return
-	}
-	if rc.Flush() != nil {
+	if !send("retry: 2000\n: Parley live changes of workshop %d\n\nevent: hello\ndata: %s\n\n", ws.ID, hello) {
 		return
 	}
 	tick := time.NewTicker(heartbeat)
@@ -214,7 +226,7 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 			if !s.stillSignedIn(r) {
 				return
 			}
-			if _, err := fmt.Fprint(w, ": still here\n\n"); err != nil || rc.Flush() != nil {
+			if !send(": still here\n\n") {
 				return
 			}
 		case ev := <-ch:
@@ -222,7 +234,7 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 				return
 			}
 			b, _ := json.Marshal(ev)
-			if _, err := fmt.Fprintf(w, "event: change\ndata: %s\n\n", b); err != nil || rc.Flush() != nil {
+			if !send("event: change\ndata: %s\n\n", b) {
 				return
 			}
 		}
