@@ -194,16 +194,15 @@ func (c *liveClient) run(ctx context.Context, cl *http.Client, base, events stri
 
 // liveRoomResult is what one room measured.
 type liveRoomResult struct {
-	size                    liveSize
-	saves                   int // every save acknowledged: the workshop's changes
-	elapsed                 time.Duration
-	clients                 []*liveClient
-	baseGoroutines, peak    int
-	endGoroutines           int
-	heapBase, heapPeak      uint64
-	heapEnd                 uint64
-	caughtUp                time.Duration // from the last save to every page at the last change
-	stuckStreams, stuckGets int
+	size                 liveSize
+	saves                int // every save acknowledged: the workshop's changes
+	elapsed              time.Duration
+	clients              []*liveClient
+	baseGoroutines, peak int
+	endGoroutines        int
+	heapBase, heapPeak   uint64
+	heapEnd              uint64
+	caughtUp             time.Duration // from the last save to every page at the last change
 }
 
 func (r liveRoomResult) report() string {
