@@ -327,3 +327,62 @@ func TestOverviewRosterFollowsALiveSave(t *testing.T) {
 		t.Errorf("the roster did not follow Priya's save within %v: it reads %q", liveWithin, eval[string](fac, "Priya's count", count))
 	}
 }
+
+// TestLivePageCutsItsWaitShortOnAChange: fetches of the room view that
+// failed (the server restarting) are tried again ever later, up to a
+// minute apart; a change heard meanwhile waited for the next try, so the
+// projector stood a minute behind the room after the server came back,
+// while it said it was connected. A change cuts the wait short.
+func TestLivePageCutsItsWaitShortOnAChange(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 768, false)
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+	fac.open(room)
+	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+
+	paused := make(chan fetch.RequestID, 8)
+	ctx, cancel := context.WithCancel(fac.ctx)
+	defer cancel()
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*fetch.EventRequestPaused); ok {
+			select {
+			case paused <- e.RequestID:
+			default:
+			}
+		}
+	}); err != nil {
+		t.Fatal(err)
+	}
+	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
+		fac.do(what, chromedp.Func(f))
+	}
+	call("catch the room's fetches of itself", func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room", RequestStage: fetch.RequestStageRequest}}})
+		return err
+	})
+	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
+	// Three fetches fail, 2 s and 4 s apart; the next waits 8 s.
+	for i, within := range []time.Duration{liveWithin, 5 * time.Second, 8 * time.Second} {
+		var id fetch.RequestID
+		select {
+		case id = <-paused:
+		case <-time.After(within):
+			t.Fatalf("fetch %d: the room view did not fetch itself within %v", i+1, within)
+		}
+		call("the fetch fails", func(ctx context.Context, t *chromedp.Target) error {
+			_, err := cdp.Call(ctx, t, fetch.FailRequest, fetch.FailRequestParams{RequestID: id, ErrorReason: network.ErrorReasonConnectionRefused})
+			return err
+		})
+	}
+	call("the server is back", func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, fetch.Disable, cdp.Empty{})
+		return err
+	})
+	priyaSaves(t, site, d, "0.02", "0.06", "0.13")
+	if err := fac.poll(liveWithin, `document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.")`); err != nil {
+		t.Fatalf("the room view did not follow a change within %v of it while a failed fetch waited: %v", liveWithin, err)
+	}
+}

@@ -140,11 +140,23 @@
   }
 
   // schedule fetches the page in a while: 250 ms, to gather changes that
-  // arrive close together, or delay ms.
+  // arrive close together, or delay ms. A change heard while a failed
+  // fetch waits to be tried again cuts the wait short: the server is
+  // there, its stream just spoke. The projector stood a minute behind
+  // the room after the server came back from a restart (its fetches had
+  // failed meanwhile, the wait doubling), while it said it was connected.
+  var due = 0;
   function schedule(delay) {
-    if (!timer) {
-      timer = window.setTimeout(refresh, delay || 250);
+    var d = delay || 250;
+    if (timer) {
+      if (delay || due <= Date.now() + d) {
+        return;
+      }
+      window.clearTimeout(timer);
+      wait = failedWait;
     }
+    due = Date.now() + d;
+    timer = window.setTimeout(refresh, d);
   }
 
   // retryAfter is how long a refused stream waits before asking again,
