@@ -249,6 +249,9 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 	// ended by a carriage return alone were one row, and a header in
 	// quote marks with semicolons between its cells ("expert";"question")
 	// was refused by CSV's rule of quote marks, not as semicolon-separated.
+	if answersheet.InUTF16(b) {
+		return nil, &elicit.InputError{Field: "input", Rule: ruleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
+	}
 	b = answersheet.SpreadsheetLines(b)
 	if sep := answersheet.OtherSeparator(b); sep != "" {
 		return nil, &elicit.InputError{Field: "header", Rule: answersheet.RuleCommas, Detail: "the columns are separated by " + sep}
@@ -481,6 +484,9 @@ func csvError(err error) error {
 }
 
 const ruleCSVSyntax elicit.Rule = "must be well-formed CSV"
+
+// ruleUTF8 is the answer sheet's rule of its encoding, said of the file.
+const ruleUTF8 elicit.Rule = "must be saved as UTF-8 (in a spreadsheet program: CSV UTF-8)"
 
 // parseSeedHeader checks the header and returns the column names and the
 // probabilities of the quantile columns.

@@ -248,6 +248,9 @@ func TestCalibrateBadInput(t *testing.T) {
 		// Its cells in quote marks, as such a spreadsheet writes them: it
 		// read "row 1: must be well-formed CSV (extraneous or missing \"
 		// in quoted-field)", as the answer sheet did before it was taught.
+		// A spreadsheet's "Unicode text": it read "header column 1: …
+		// (want "expert")" of a header whose first column is expert.
+		{"UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00,\x00q\x00\n\x00", nil, []string{"input: " + string(ruleUTF8), "UTF-16"}},
 		{"semicolons between quoted cells", `"expert";"question";"realization";"q05";"q50";"q95"` + "\n" + `"A";"s1";"1";"0";"1";"2"` + "\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}

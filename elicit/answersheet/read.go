@@ -85,6 +85,14 @@ func rowErr(line int, column string, rule elicit.Rule, detail string, args ...an
 	return &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: rule, Detail: fmt.Sprintf(detail, args...)}
 }
 
+// InUTF16 says a file is a spreadsheet's "Unicode text", UTF-16, each
+// letter two bytes after its byte order mark: read as UTF-8 an answer
+// sheet's header was quoted back as "\xff\xfee\x00x\x00…", and parley
+// calibrate's said its first column was not "expert".
+func InUTF16(b []byte) bool {
+	return bytes.HasPrefix(b, []byte{0xff, 0xfe}) || bytes.HasPrefix(b, []byte{0xfe, 0xff})
+}
+
 // SpreadsheetLines makes a CSV file as a spreadsheet saves it readable
 // by encoding/csv, for the answer sheet and parley calibrate alike. A
 // spreadsheet's "CSV UTF-8" starts with a byte order mark, which would
@@ -140,9 +148,7 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	if len(b) > MaxBytes {
 		return nil, &elicit.InputError{Field: "sheet", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (1 MiB)", MaxBytes)}
 	}
-	// A spreadsheet's "Unicode text" is UTF-16, each letter two bytes:
-	// read as UTF-8 its header was quoted back as "\xff\xfee\x00x\x00…".
-	if bytes.HasPrefix(b, []byte{0xff, 0xfe}) || bytes.HasPrefix(b, []byte{0xfe, 0xff}) {
+	if InUTF16(b) {
 		return nil, &elicit.InputError{Field: "sheet", Rule: RuleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
 	}
 	body := SpreadsheetLines(b)
