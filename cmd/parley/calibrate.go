@@ -12,6 +12,7 @@ import (
 	"strconv"
 	"strings"
 	"text/tabwriter"
+	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
@@ -299,6 +300,19 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 				return strings.TrimSpace(rec[i])
 			}
 			return ""
+		}
+		// A spreadsheet's plain CSV in Windows-1252, as the answer sheet
+		// says it: a name with an accent was "must be plain text (no
+		// control characters …) (not UTF-8)".
+		for i, c := range rec {
+			if !utf8.ValidString(c) {
+				col := strconv.Itoa(i + 1)
+				if i < len(cols) {
+					col = cols[i]
+				}
+				return nil, &elicit.InputError{Field: field(col), Rule: ruleUTF8,
+					Detail: fmt.Sprintf("%s is in another encoding, such as Windows-1252", strconv.Quote(input.Clip(c, 40)))}
+			}
 		}
 		if len(rec) > len(cols) {
 			return nil, &elicit.InputError{Field: field("columns"), Rule: elicit.RuleCount,

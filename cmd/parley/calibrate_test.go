@@ -251,6 +251,9 @@ func TestCalibrateBadInput(t *testing.T) {
 		// A spreadsheet's "Unicode text": it read "header column 1: …
 		// (want "expert")" of a header whose first column is expert.
 		{"UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00,\x00q\x00\n\x00", nil, []string{"input: " + string(ruleUTF8), "UTF-16"}},
+		// A spreadsheet's plain CSV in Windows-1252: "José" was "must be
+		// plain text (no control characters …) (not UTF-8)".
+		{"Windows-1252", head + "Jos\xe9,s1,1,0,1,2\n", nil, []string{"row 2: expert: " + string(ruleUTF8), "Windows-1252"}},
 		{"semicolons between quoted cells", `"expert";"question";"realization";"q05";"q50";"q95"` + "\n" + `"A";"s1";"1";"0";"1";"2"` + "\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
@@ -331,7 +334,8 @@ func TestCalibrateNamesFollowTheTextRule(t *testing.T) {
 		{"ESC sequence", "A\x1b[31mRED", string(input.RuleTextValid), "U+001B"},
 		{"C1 control", "A\u0085B", string(input.RuleTextValid), "U+0085"},
 		{"DEL", "A\x7f", string(input.RuleTextValid), "U+007F"},
-		{"invalid UTF-8", "\xff", string(input.RuleTextValid), "not UTF-8"},
+		// In the answer sheet's words for a file in another encoding.
+		{"invalid UTF-8", "\xff", string(ruleUTF8), "another encoding"},
 		{"201 characters", long, string(input.RuleTooLong), "got 201"},
 		{"blank", "  ", string(elicit.RuleRequired), ""},
 	} {
