@@ -67,9 +67,9 @@ func runPrior(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.BoolVar(&a.uniform, "uniform", false, "the uniform prior, Beta(1, 1): every value equally likely")
 	fs.StringVar(&a.successes, "successes", "", "equivalent prior sample: imagined successes s (> 0), with --trials")
 	fs.StringVar(&a.trials, "trials", "", "equivalent prior sample: imagined trials n (> s); the prior is Beta(s, n - s)")
-	fs.StringVar(&a.mean, "mean", "", "method of moments: the mean, with --sd")
+	fs.StringVar(&a.mean, "mean", "", "method of moments: the mean, with --sd (on bounds 0 and 1 it may be a percentage, 10%)")
 	fs.StringVar(&a.sd, "sd", "", "method of moments: the standard deviation (sd² < (mean - lower)(upper - mean))")
-	fs.StringVar(&a.interval, "interval", "", "central interval: low,high, with --coverage")
+	fs.StringVar(&a.interval, "interval", "", "central interval: low,high, with --coverage (on bounds 0 and 1 each may be a percentage, 3%)")
 	fs.StringVar(&a.coverage, "coverage", "", "central interval: the probability it holds, strictly between 0 and 1 (0.9, or 90%)")
 	fs.StringVar(&a.method, "method", "quantiles", "central interval: quantiles (exact match) or moments (normal approximation)")
 	fs.StringVar(&a.lower, "lower", "0", "lower bound of the quantity")
@@ -168,6 +168,15 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 	if in.Upper, err = number("upper", a.upper); err != nil {
 		return priorOutput{}, err
 	}
+	// On a proportion (bounds 0 and 1) a value may carry a % sign, as on
+	// the quick priors page: 3% is 0.03. On other bounds a % sign is
+	// refused, since 3% of what is not said.
+	value := func(field, raw string) (float64, error) {
+		if strings.HasSuffix(strings.TrimSpace(raw), "%") && !(in.Lower == 0 && in.Upper == 1) {
+			return 0, badInput(field, "takes a %% sign only on bounds 0 and 1, where it is a proportion; here the bounds are %s and %s", input.Typed(in.Lower, false), input.Typed(in.Upper, false))
+		}
+		return fraction(field, raw)
+	}
 	switch method {
 	case elicit.MethodEquivalentSample:
 		if in.Successes, err = number("successes", a.successes); err != nil {
@@ -177,15 +186,23 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 			return priorOutput{}, err
 		}
 	case elicit.MethodMeanSD:
-		if in.Mean, err = number("mean", a.mean); err != nil {
+		if in.Mean, err = value("mean", a.mean); err != nil {
 			return priorOutput{}, err
 		}
-		if in.SD, err = number("sd", a.sd); err != nil {
+		if in.SD, err = value("sd", a.sd); err != nil {
 			return priorOutput{}, err
 		}
 	case elicit.MethodIntervalQuantiles, elicit.MethodIntervalMoments:
-		ends, err := numbers("interval", a.interval)
-		if err != nil {
+		var ends []float64
+		if strings.Contains(a.interval, "%") {
+			for i, end := range strings.Split(a.interval, ",") {
+				v, err := value(fmt.Sprintf("interval[%d]", i), end)
+				if err != nil {
+					return priorOutput{}, err
+				}
+				ends = append(ends, v)
+			}
+		} else if ends, err = numbers("interval", a.interval); err != nil {
 			return priorOutput{}, err
 		}
 		if len(ends) != 2 {

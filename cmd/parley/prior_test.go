@@ -426,3 +426,30 @@ func TestPriorCoverageTakesAPercentSign(t *testing.T) {
 		t.Errorf("--coverage 90%% gives\n%s\nwhere 0.9 gives\n%s", pct, plain)
 	}
 }
+
+// On bounds 0 and 1 the interval's ends, the mean and the sd take a %
+// sign, as the quick priors page does (3% is 0.03); on other bounds a %
+// sign is refused naming the flag, exit 2.
+func TestPriorValuesOfAProportionTakeAPercentSign(t *testing.T) {
+	for _, c := range [][2][]string{
+		{{"--interval", "3%,12%", "--coverage", "90%"}, {"--interval", "0.03,0.12", "--coverage", "0.9"}},
+		{{"--mean", "10%", "--sd", "5%"}, {"--mean", "0.1", "--sd", "0.05"}},
+	} {
+		args := func(a []string) []string { return append(append([]string{"prior"}, a...), "--format", "json") }
+		code, pct, errs := runCLI(t, "", args(c[0])...)
+		if code != exitOK {
+			t.Fatalf("%v: exit %d, %s", c[0], code, errs)
+		}
+		code, plain, errs := runCLI(t, "", args(c[1])...)
+		if code != exitOK {
+			t.Fatalf("%v: exit %d, %s", c[1], code, errs)
+		}
+		if pct != plain {
+			t.Errorf("%v gives\n%s\nwhere %v gives\n%s", c[0], pct, c[1], plain)
+		}
+	}
+	code, out, errs := runCLI(t, "", "prior", "--mean", "10%", "--sd", "5", "--upper", "100")
+	if code != exitBadInput || out != "" || !strings.Contains(errs, "mean: takes a % sign only on bounds 0 and 1") {
+		t.Errorf("a %% mean on [0, 100]: exit %d, stdout %q, stderr %q", code, out, errs)
+	}
+}
