@@ -245,35 +245,7 @@ const liveRetry = 5 * time.Second
 // change from fetching it at all. A failed fetch is tried again, and a
 // hung one given up and tried again.
 func TestLivePageFetchesAgainAfterAFailedFetch(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.viewport(1366, 768, false)
-	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
-	fac.open(room)
-	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
-
-	paused := make(chan fetch.RequestID, 8)
-	ctx, cancel := context.WithCancel(fac.ctx)
-	defer cancel()
-	if err := chromedp.Listen(ctx, func(ev any) {
-		if e, ok := ev.(*fetch.EventRequestPaused); ok {
-			select {
-			case paused <- e.RequestID:
-			default:
-			}
-		}
-	}); err != nil {
-		t.Fatal(err)
-	}
-	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
-		fac.do(what, chromedp.Func(f))
-	}
-	call("catch the room's fetches of itself", func(ctx context.Context, t *chromedp.Target) error {
-		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room", RequestStage: fetch.RequestStageRequest}}})
-		return err
-	})
+	site, d, fac, paused, call := roomWithFetchesCaught(t)
 	next := func(what string, within time.Duration) fetch.RequestID {
 		select {
 		case id := <-paused:
@@ -334,35 +306,7 @@ func TestOverviewRosterFollowsALiveSave(t *testing.T) {
 // projector stood a minute behind the room after the server came back,
 // while it said it was connected. A change cuts the wait short.
 func TestLivePageCutsItsWaitShortOnAChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.viewport(1366, 768, false)
-	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
-	fac.open(room)
-	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
-
-	paused := make(chan fetch.RequestID, 8)
-	ctx, cancel := context.WithCancel(fac.ctx)
-	defer cancel()
-	if err := chromedp.Listen(ctx, func(ev any) {
-		if e, ok := ev.(*fetch.EventRequestPaused); ok {
-			select {
-			case paused <- e.RequestID:
-			default:
-			}
-		}
-	}); err != nil {
-		t.Fatal(err)
-	}
-	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
-		fac.do(what, chromedp.Func(f))
-	}
-	call("catch the room's fetches of itself", func(ctx context.Context, t *chromedp.Target) error {
-		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room", RequestStage: fetch.RequestStageRequest}}})
-		return err
-	})
+	site, d, fac, paused, call := roomWithFetchesCaught(t)
 	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
 	// Three fetches fail, 2 s and 4 s apart; the next waits 8 s.
 	for i, within := range []time.Duration{liveWithin, 5 * time.Second, 8 * time.Second} {
@@ -385,4 +329,43 @@ func TestLivePageCutsItsWaitShortOnAChange(t *testing.T) {
 	if err := fac.poll(liveWithin, `document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.")`); err != nil {
 		t.Fatalf("the room view did not follow a change within %v of it while a failed fetch waited: %v", liveWithin, err)
 	}
+}
+
+// roomWithFetchesCaught opens the invented demo's first question's room
+// view at 1366×768, signed in and its stream connected, with Chromium
+// holding the room's fetches of itself: each held fetch's id arrives on
+// paused, for call to fail, continue or leave hanging (call runs a
+// command of Chromium's in the facilitator's tab).
+func roomWithFetchesCaught(t *testing.T) (*site, demo, *person, <-chan fetch.RequestID, func(string, func(context.Context, *chromedp.Target) error)) {
+	t.Helper()
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 768, false)
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+	fac.open(room)
+	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+
+	paused := make(chan fetch.RequestID, 8)
+	ctx, cancel := context.WithCancel(fac.ctx)
+	t.Cleanup(cancel)
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*fetch.EventRequestPaused); ok {
+			select {
+			case paused <- e.RequestID:
+			default:
+			}
+		}
+	}); err != nil {
+		t.Fatal(err)
+	}
+	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
+		fac.do(what, chromedp.Func(f))
+	}
+	call("catch the room's fetches of itself", func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room", RequestStage: fetch.RequestStageRequest}}})
+		return err
+	})
+	return site, d, fac, paused, call
 }
