@@ -1907,11 +1907,11 @@ func planForm(v studyView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(v.Plan.Form, "threshold", "Threshold", "a proportion, e.g. 0.08").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(v.Plan.Form, "threshold", "Threshold", "a proportion, e.g. 0.08 or 8%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(v.Plan.Form, "confidence", "Confidence", "e.g. 0.95").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(v.Plan.Form, "confidence", "Confidence", "e.g. 0.95 or 95%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -1919,11 +1919,11 @@ func planForm(v studyView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(v.Plan.Form, "length", "Interval length", "e.g. 0.04").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(v.Plan.Form, "length", "Interval length", "e.g. 0.04 or 4%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(v.Plan.Form, "level", "Level", "e.g. 0.9; 0.95 if left empty").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(v.Plan.Form, "level", "Level", "e.g. 0.9 or 90%; 0.95 if left empty").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -1997,7 +1997,7 @@ func planForm(v studyView) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(v.Plan.Form, "woc_trim", "Worst outcome: leave aside", "unlikely outcomes of this total probability, e.g. 0.05 (worst outcome only)").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = numberInput(v.Plan.Form, "woc_trim", "Worst outcome: leave aside", "unlikely outcomes of this total probability, e.g. 0.05 or 5% (worst outcome only)").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

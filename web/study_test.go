@@ -1097,3 +1097,15 @@ func TestStudyPlanTakesPercentSigns(t *testing.T) {
 		t.Error("a plain 95 is taken as the confidence")
 	}
 }
+
+// The plan's hints say a % sign is taken, as the fields now take it
+// (TestStudyPlanTakesPercentSigns): they said "e.g. 0.95" alone.
+func TestStudyPlanHintsSayAPercentSignIsTaken(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(studyPath(ws.ID, qs[0].ID))
+	for _, hint := range []string{"a proportion, e.g. 0.08 or 8%", "e.g. 0.95 or 95%", "e.g. 0.04 or 4%", "e.g. 0.9 or 90%; 0.95 if left empty", "e.g. 0.05 or 5% (worst outcome only)"} {
+		if !strings.Contains(body, hint) {
+			t.Errorf("the study page's plan lacks the hint %q", hint)
+		}
+	}
+}
