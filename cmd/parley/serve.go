@@ -195,7 +195,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stdout, "parley: facilitator sign-in address (works once; keep it private): %s%s\n", base, web.SignInPath(secret))
 	} else {
 		fmt.Fprintf(stdout, "parley: facilitator sign-in at %s/signin: the sign-in address printed earlier is still unused and works once "+
-			"(lost it? parley facilitator-reset --db %s --keep-signed-in --base-url %s)\n", base, dbPath, base)
+			"(lost it? parley facilitator-reset --db %s --keep-signed-in --base-url %s)\n", base, shellWord(dbPath), base)
 	}
 
 	hs := &http.Server{
@@ -341,4 +341,24 @@ func printableAddr(host string, a net.Addr) string {
 		host = "127.0.0.1"
 	}
 	return net.JoinHostPort(host, port)
+}
+
+// shellWord writes s as one word a POSIX shell reads back as s: as it
+// is when it holds only letters, digits and _ . / - : + , @ %, else in
+// single quotes, a quote mark inside closing them, escaped and opening
+// them again. The command serve suggests for a lost sign-in address
+// named a database in "My workshops" unquoted, which a copy and paste
+// split at the space.
+func shellWord(s string) string {
+	plain := s != ""
+	for _, r := range s {
+		if !(r >= 'a' && r <= 'z' || r >= 'A' && r <= 'Z' || r >= '0' && r <= '9' || strings.ContainsRune("_./-:+,@%", r)) {
+			plain = false
+			break
+		}
+	}
+	if plain {
+		return s
+	}
+	return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
 }

@@ -450,3 +450,26 @@ func TestServeRefusesAFolderOrAnotherFileAsItsDatabase(t *testing.T) {
 		t.Errorf("serve changed the file given as --db: %q", b)
 	}
 }
+
+// The facilitator-reset that serve suggests for a lost sign-in address
+// names a database whose path holds a space in quote marks, so that a
+// copy and paste gives one word; it was unquoted and split at the space.
+func TestServeSuggestsAResetAShellReads(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "Reliability team's workshops", "parley.db")
+	if err := os.MkdirAll(filepath.Dir(dbPath), 0o755); err != nil {
+		t.Fatal(err)
+	}
+	_, _, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+	_, out, _, stop2 := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	defer stop2()
+	want := "parley facilitator-reset --db '" + strings.ReplaceAll(dbPath, "'", `'\''`) + "' --keep-signed-in"
+	if !strings.Contains(out.String(), want) {
+		t.Errorf("the suggested reset does not quote the database's path; want %q in:\n%s", want, out)
+	}
+	if got := shellWord("/srv/parley/parley.db"); got != "/srv/parley/parley.db" {
+		t.Errorf("a plain path is written %q", got)
+	}
+}
