@@ -3,9 +3,7 @@ package e2e
 import (
 	"fmt"
 	"net/http"
-	"net/url"
 	"strconv"
-	"strings"
 	"testing"
 )
 
@@ -19,7 +17,7 @@ const liveTabs = 8
 // its own event stream, so with six open the seventh never loaded.
 func TestManyLiveTabsInOneBrowser(t *testing.T) {
 	site, d := startDemo(t)
-	links, qs, wsURL := d.links, d.qs, d.url+"/"
+	qs, wsURL := d.qs, d.url+"/"
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
@@ -42,19 +40,7 @@ func TestManyLiveTabsInOneBrowser(t *testing.T) {
 	}
 
 	// Priya saves her answer to question 1: every tab follows.
-	form := url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"}, "reason": {"Line audits (invented)."}}
-	req, _ := http.NewRequest(http.MethodPost, site.URL+linkOf(t, links, "Priya Raman")+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save",
-		strings.NewReader(form.Encode()))
-	req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
-	req.Header.Set("Origin", site.URL)
-	res, err := http.DefaultClient.Do(req)
-	if err != nil {
-		t.Fatal(err)
-	}
-	res.Body.Close()
-	if res.StatusCode >= 400 {
-		t.Fatalf("Priya's save: status %d", res.StatusCode)
-	}
+	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
 	for i, tab := range tabs {
 		expr := fmt.Sprintf(`String(document.documentElement.getAttribute("data-live-updated")) !== %q`, before[i])
 		if err := tab.poll(liveWithin, expr); err != nil {

@@ -60,47 +60,46 @@ func TestFirstTimeWalk(t *testing.T) {
 	wsURL := strings.TrimSuffix(fac.url(), "/") + "/"
 	both(fac, "w02-new-workshop", false)
 
-	// Q1: quantiles at 5/50/95 (the expert types percentages).
-	fac.open(wsURL + "questions/new")
-	both(fac, "w03-question-form", false)
 	qf := `form[action$="/questions"]`
-	fac.fill(qf, "wording", "Of the fridges of the new model installed this year, what share will raise a false alarm in their first month? (invented)")
-	fac.fill(qf, "quantity", "false-alarm share")
-	fac.fill(qf, "units", "share of fridges")
-	if st := fac.load("add q1", chromedp.Click(chromedp.CSS(qf+` button[type=submit]`))); st != http.StatusOK {
-		t.Fatalf("q1: %d\n%s", st, clip(fac.text(), 2000))
+	// addQuestion fills the question form's words, lets more fill the
+	// rest (nil: quantiles at 5/50/95) and adds it.
+	addQuestion := func(name, wording, quantity, units string, more func()) {
+		fac.open(wsURL + "questions/new")
+		if name == "q1" {
+			both(fac, "w03-question-form", false)
+		}
+		fac.fill(qf, "wording", wording)
+		fac.fill(qf, "quantity", quantity)
+		fac.fill(qf, "units", units)
+		if more != nil {
+			more()
+		}
+		if st := fac.load("add "+name, chromedp.Click(chromedp.CSS(qf+` button[type=submit]`))); st != http.StatusOK {
+			t.Fatalf("%s: %d\n%s", name, st, clip(fac.text(), 2000))
+		}
 	}
+	// Q1: quantiles at 5/50/95 (the expert types percentages).
+	addQuestion("q1", "Of the fridges of the new model installed this year, what share will raise a false alarm in their first month? (invented)",
+		"false-alarm share", "share of fridges", nil)
 	// Q2: chips in bins.
-	fac.open(wsURL + "questions/new")
-	fac.fill(qf, "wording", "Of the alarm boards returned under warranty, what share have a faulty sensor? (invented)")
-	fac.fill(qf, "quantity", "faulty-sensor share")
-	fac.fill(qf, "units", "share of returned boards")
-	fac.do("chips", chromedp.Click(chromedp.CSS(qf+` input[name=format][value=chips]`)))
-	fac.fill(qf, "chips", "20")
-	if st := fac.load("add q2", chromedp.Click(chromedp.CSS(qf+` button[type=submit]`))); st != http.StatusOK {
-		t.Fatalf("q2: %d\n%s", st, clip(fac.text(), 2000))
-	}
+	addQuestion("q2", "Of the alarm boards returned under warranty, what share have a faulty sensor? (invented)",
+		"faulty-sensor share", "share of returned boards", func() {
+			fac.do("chips", chromedp.Click(chromedp.CSS(qf+` input[name=format][value=chips]`)))
+			fac.fill(qf, "chips", "20")
+		})
 	// Q3: a calibration question, four-value interval.
-	fac.open(wsURL + "questions/new")
-	fac.fill(qf, "wording", "Last year, what share of the old model's fridges raised a false alarm in their first month? (invented; the true value is known)")
-	fac.fill(qf, "quantity", "old model's false-alarm share")
-	fac.fill(qf, "units", "share of fridges")
-	fac.do("interval", chromedp.Click(chromedp.CSS(qf+` input[name=format][value=interval]`)))
-	fac.do("calibration", chromedp.Click(chromedp.CSS(qf+` input[name=calibration]`)))
-	fac.fill(qf, "true_value", "0.07")
-	if st := fac.load("add q3", chromedp.Click(chromedp.CSS(qf+` button[type=submit]`))); st != http.StatusOK {
-		t.Fatalf("q3: %d\n%s", st, clip(fac.text(), 2000))
-	}
+	addQuestion("q3", "Last year, what share of the old model's fridges raised a false alarm in their first month? (invented; the true value is known)",
+		"old model's false-alarm share", "share of fridges", func() {
+			fac.do("interval", chromedp.Click(chromedp.CSS(qf+` input[name=format][value=interval]`)))
+			fac.do("calibration", chromedp.Click(chromedp.CSS(qf+` input[name=calibration]`)))
+			fac.fill(qf, "true_value", "0.07")
+		})
 	// Q4: a calibration question in quantiles, which the classical model scores.
-	fac.open(wsURL + "questions/new")
-	fac.fill(qf, "wording", "Last year, what share of the old model's alarm boards came back under warranty? (invented; the true value is known)")
-	fac.fill(qf, "quantity", "old model's board return share")
-	fac.fill(qf, "units", "share of boards")
-	fac.do("calibration", chromedp.Click(chromedp.CSS(qf+` input[name=calibration]`)))
-	fac.fill(qf, "true_value", "0.3")
-	if st := fac.load("add q4", chromedp.Click(chromedp.CSS(qf+` button[type=submit]`))); st != http.StatusOK {
-		t.Fatalf("q4: %d\n%s", st, clip(fac.text(), 2000))
-	}
+	addQuestion("q4", "Last year, what share of the old model's alarm boards came back under warranty? (invented; the true value is known)",
+		"old model's board return share", "share of boards", func() {
+			fac.do("calibration", chromedp.Click(chromedp.CSS(qf+` input[name=calibration]`)))
+			fac.fill(qf, "true_value", "0.3")
+		})
 	both(fac, "w04-overview-questions", false)
 
 	links := map[string]string{}
