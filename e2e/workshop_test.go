@@ -787,6 +787,14 @@ func livePreview(t *testing.T, ex *person, n int, before []point, shows string) 
 // saveAnswer clicks "Save this answer" and expects the saved page.
 func saveAnswer(t *testing.T, ex *person) {
 	t.Helper()
+	// A value typed just before starts the live preview (preview.js, 350
+	// ms after typing stops), whose picture may change the page's height
+	// under the button as the click lands: once in CI the click met no
+	// button and no page loaded. The save waits for the preview to settle.
+	time.Sleep(400 * time.Millisecond)
+	if err := ex.poll(stepTimeout, `!document.querySelector('[aria-busy="true"]')`); err != nil {
+		t.Fatalf("%s: the preview did not settle before the save: %v", ex.name, err)
+	}
 	if st := ex.load("save", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusOK {
 		t.Fatalf("%s: save: status %d\n%s", ex.name, st, clip(ex.text(), 2000))
 	}
