@@ -82,3 +82,24 @@ func TestQuickPriorsValuesOfAProportionTakeAPercentSign(t *testing.T) {
 		}
 	}
 }
+
+// The hints of the fields that take a % sign on a proportion say so, as
+// the coverage's does: without it a facilitator who thinks in
+// percentages types 3 for 3%, which is refused (or, for an SD, read as
+// 3), and learns the % sign only from the message.
+func TestQuickPriorsHintsSayAPercentSignIsTaken(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	_, body := h.get(quickPriorsPath(ws.ID))
+	for _, name := range []string{"c_mean", "c_sd", "c_low", "c_high", "c_coverage"} {
+		at := strings.Index(body, `id="`+inputID(name)+`"`)
+		if at < 0 {
+			t.Fatalf("no field %s", name)
+		}
+		field := body[at:]
+		field = field[:strings.Index(field, "</div>")]
+		_, hint, ok := strings.Cut(field, `<span class="hint">`)
+		if hint, _, _ = strings.Cut(hint, "</span>"); !ok || !strings.Contains(hint, "%") {
+			t.Errorf("%s: its hint does not say a %% sign is taken: %q", name, field)
+		}
+	}
+}
