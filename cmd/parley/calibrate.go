@@ -70,6 +70,9 @@ func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int 
 	if err != nil {
 		return fail(stderr, "calibrate", err)
 	}
+	if len(seeds.hashRows) > 0 {
+		fmt.Fprintf(stderr, "parley calibrate: note: %s\n", hashRowsWords(seeds.hashRows))
+	}
 	opt.LogScale = seeds.logScale
 	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, seeds.bounds, opt)
 	if err != nil {
@@ -202,6 +205,9 @@ type seedCSV struct {
 	logScale     map[string]bool       // questions scored against the log-uniform background
 	rows         []int
 	qcols        []string // the quantile columns' names
+	// hashRows are the rows read as comments that hold an assessment
+	// (hashAssessments).
+	hashRows []int
 }
 
 // quantileColumn is a qNN header: the probability 0.NN, e.g. q05 → 0.05,
@@ -396,10 +402,70 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 		out.assessments = append(out.assessments, a)
 		out.rows = append(out.rows, row)
 	}
+	out.hashRows = hashAssessments(b, len(cols))
 	if len(out.assessments) == 0 {
-		return nil, &elicit.InputError{Field: "rows", Rule: elicit.RuleCount, Detail: "no assessments after the header"}
+		detail := "no assessments after the header"
+		if len(out.hashRows) > 0 {
+			detail += "; " + hashRowsWords(out.hashRows)
+		}
+		return nil, &elicit.InputError{Field: "rows", Rule: elicit.RuleCount, Detail: detail}
 	}
 	return out, nil
+}
+
+// hashAssessments finds the rows below the header that CSV skips as
+// comments (they start with #) but that hold an assessment: as many
+// cells as the header, a number as the realisation. A panel named #1,
+// #2, … had those rows dropped without a word. Unlike the answer sheet,
+// the file names no panel that would tell such a name from a row put
+// out of the count on purpose, so they are not refused: the run says
+// which rows it left out (hashRowsWords). Lines are read as CSV without
+// comments, so that a # inside a quoted cell is no line of its own.
+func hashAssessments(body []byte, ncols int) []int {
+	cr := csv.NewReader(bytes.NewReader(body))
+	cr.FieldsPerRecord = -1
+	cr.TrimLeadingSpace = true
+	var rows []int
+	header := true
+	for {
+		// The record's first character as the file has it: a quoted
+		// "#1" is no comment.
+		at := int(cr.InputOffset())
+		for at < len(body) && (body[at] == '\n' || body[at] == '\r') {
+			at++
+		}
+		rec, err := cr.Read()
+		if err != nil {
+			return rows
+		}
+		raw := at < len(body) && body[at] == '#'
+		if header {
+			// Comment lines above the header are the file's notes.
+			header = raw
+			continue
+		}
+		if !raw || len(rec) != ncols {
+			continue
+		}
+		if _, err := strconv.ParseFloat(strings.TrimSpace(rec[2]), 64); err == nil {
+			line, _ := cr.FieldPos(0)
+			rows = append(rows, line)
+		}
+	}
+}
+
+// hashRowsWords says which rows were read as comments though they hold
+// an assessment, and how to count them.
+func hashRowsWords(rows []int) string {
+	nums := make([]string, len(rows))
+	for i, r := range rows {
+		nums[i] = strconv.Itoa(r)
+	}
+	which := "row " + nums[0] + " starts with # and holds an assessment, so it was left out as a comment"
+	if len(rows) > 1 {
+		which = "rows " + strings.Join(nums, ", ") + " start with # and hold assessments, so they were left out as comments"
+	}
+	return which + `; to count an expert whose name starts with #, put the name in quote marks ("#1")`
 }
 
 // ruleSameRealisation is broken when rows of one question give different

@@ -993,3 +993,26 @@ func TestCalibrateReadsASpreadsheetsLines(t *testing.T) {
 		}
 	}
 }
+
+// TestCalibrateSaysWhichAssessmentsWereReadAsComments: a row whose
+// expert is named #1 is a comment to CSV, and was dropped without a
+// word. The file names no panel that would tell such a name from a row
+// put out of the count on purpose, so the run goes on without it but
+// says which rows it left out; a file whose every assessment is such a
+// row is refused saying why. A note, a quoted "#2" and a # inside a
+// quoted cell are not such rows.
+func TestCalibrateSaysWhichAssessmentsWereReadAsComments(t *testing.T) {
+	const head = "# invented seeds\nexpert,question,realization,q05,q50,q95\n"
+	code, _, errOut := runCLI(t, head+"#1,q1,3,2,5,8\nB,q1,3,4,5,6\n# a note, here\n\"#2\",q1,3,1,3,9\n\"C, #3\",q1,3,1,4,9\n", "calibrate", "--input", "-")
+	if code != exitOK || !strings.Contains(errOut, "row 3 starts with # and holds an assessment") || strings.Count(errOut, "row") != 1 {
+		t.Errorf("exit %d, stderr %q: want a note naming row 3 alone", code, errOut)
+	}
+	code, _, errOut = runCLI(t, head+"#1,q1,3,2,5,8\n#2,q1,3,4,5,6\n", "calibrate", "--input", "-")
+	if code != exitBadInput || !strings.Contains(errOut, "rows 3, 4 start with # and hold assessments") || !strings.Contains(errOut, `quote marks ("#1")`) {
+		t.Errorf("exit %d, stderr %q: want refused naming rows 3 and 4", code, errOut)
+	}
+	code, _, errOut = runCLI(t, head+"A,q1,3,2,5,8\n# B,q1,3\n", "calibrate", "--input", "-")
+	if code != exitOK || errOut != "" {
+		t.Errorf("a short note: exit %d, stderr %q; want no note", code, errOut)
+	}
+}
