@@ -143,12 +143,15 @@ func (d Beta) ESS() float64 { return d.Alpha + d.Beta }
 
 // Mode is (α−1)/(α+β−2) when α, β > 1. Otherwise the density has no
 // interior maximum and ok is false; x is then the boundary where the
-// density is largest (0 or 1), or NaN for Beta(1,1) and U shapes.
+// density is largest (0 or 1), or NaN for Beta(1,1) and U shapes. It is
+// computed as (α−1)/((α−1)+(β−1)): both differences are exact for shapes
+// in (1, 2] (Sterbenz's lemma), where α+β−2 lost them to the rounding of
+// α+β, so shapes within 1e-15 of 1 had a mode off by half.
 func (d Beta) Mode() (x float64, ok bool) {
 	a, b := d.Alpha, d.Beta
 	switch {
 	case a > 1 && b > 1:
-		return (a - 1) / (a + b - 2), true
+		return (a - 1) / ((a - 1) + (b - 1)), true
 	case a <= 1 && b > 1, a < 1 && b == 1:
 		return 0, false
 	case b <= 1 && a > 1, b < 1 && a == 1:

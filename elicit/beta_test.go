@@ -236,3 +236,26 @@ func TestMaxDensity(t *testing.T) {
 		}
 	}
 }
+
+// TestBetaModeNearOne: the mode (α−1)/(α+β−2) of shapes just above 1 is
+// the ratio of their excesses over 1 (the published formula; the
+// expected values follow from it by hand). α+β−2 lost those excesses
+// to the rounding of α+β: Beta(1+2⁻⁵², 1+2⁻⁵¹) gave 0.25 or 0.5 where
+// the mode is 1/3.
+func TestBetaModeNearOne(t *testing.T) {
+	e := math.Pow(2, -52)
+	for _, c := range []struct {
+		d    Beta
+		want float64
+	}{
+		{Beta{1 + e, 1 + 2*e}, 1.0 / 3},
+		{Beta{1 + 3*e, 1 + e}, 0.75},
+		{Beta{1 + e, 1 + e}, 0.5},
+		{Beta{1 + 1e-9, 1 + 3e-9}, 0.25},
+	} {
+		m, ok := c.d.Mode()
+		if !ok || math.Abs(m-c.want) > 1e-6*c.want {
+			t.Errorf("Beta(1%+g, 1%+g).Mode() = %v, %v; want %v", c.d.Alpha-1, c.d.Beta-1, m, ok, c.want)
+		}
+	}
+}
