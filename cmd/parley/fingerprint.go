@@ -79,6 +79,14 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			disagrees = "a question, an expert or a withheld reason is not what its events in the decision log give"
 		}
 	}
+	// An answer saved in a round is chained before that round's close:
+	// one after it was added behind Parley's back, and leaves the values
+	// noted at the close as they were.
+	if own == nil {
+		if own = rec.CheckRounds(); own != nil {
+			disagrees = "an answer comes after its round closed (it was added later)"
+		}
+	}
 	// The weights in force and each question's agreed_prior, the
 	// record's headline numbers, are copies of their histories' last,
 	// which the chain covers.

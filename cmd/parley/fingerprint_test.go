@@ -11,6 +11,7 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+	"time"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/record"
@@ -348,5 +349,60 @@ func TestFingerprintAgreedPriorChanged(t *testing.T) {
 		if code != exitBadInput || !strings.Contains(errs, c.field) {
 			t.Errorf("%s: import: exit %d: %s", c.name, code, errs)
 		}
+	}
+}
+
+// An answer added to round 1 after round 1 closed, by a plain INSERT into
+// the database (the append-only triggers allow inserts): the chain puts it
+// after the close, so the value the room noted at the close is still
+// found, and parley fingerprint said "the record up to there is as it was
+// when the value was noted" and nothing more, while round 1's answers,
+// the round-2 feedback and the expert's current answer were no longer
+// those of the room. A revision is saved only while its round is open, so
+// one chained after its round's close (and no reopening) was added behind
+// Parley's back: fingerprint's listing exits 1 naming it, --check says so
+// beside its match (as README has it for a question changed without an
+// event), and import refuses the record.
+func TestFingerprintAnswerAddedToAClosedRound(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	noted, code := roundOneValue(t, file)
+	if code != exitOK {
+		t.Fatalf("fingerprint of the record as exported: exit %d", code)
+	}
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	// Jomo's round-1 answer to the first question, given again in round 1
+	// with other values, stamped now (after round 1's close).
+	if _, err := raw.Exec(`INSERT INTO revisions (question_id, expert_id, round, at, reason,
+		 answer_values, lowest, highest, best, confidence, counts, percent, entered_by, channel)
+		 SELECT question_id, expert_id, 1, ?, 'said in round 1', '[0.3,0.5,0.7]', lowest, highest, best, confidence, counts, percent, entered_by, channel
+		 FROM revisions WHERE id = (SELECT MAX(r.id) FROM revisions r JOIN experts e ON e.id = r.expert_id WHERE e.name = 'Jomo' AND r.round = 1)`,
+		time.Now().UTC().Format(time.RFC3339Nano)); err != nil {
+		t.Fatal(err)
+	}
+	check(t, raw.Close())
+	forged := filepath.Join(t.TempDir(), "forged.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", forged); code != exitOK {
+		t.Fatalf("export after the insert: %s", errs)
+	}
+	if v, _ := roundOneValue(t, forged); v != noted {
+		t.Fatalf("round 1's value moved (%s, noted %s): the test needs the insert after the close", v, noted)
+	}
+	want := "revisions[4].round: " + string(record.RuleSavedInItsRound)
+	code, out, errs := run("fingerprint", "--check", noted, "--in", forged)
+	if code != exitOK || !strings.Contains(out, noted+" matches") || !strings.Contains(errs, "parley fingerprint: but an answer comes after its round closed (it was added later): elicit: "+want) {
+		t.Errorf("fingerprint --check of round 1's value: exit %d, %q %q, want the match and, on stderr, %q", code, out, errs, want)
+	}
+	if code, _, errs := run("fingerprint", "--in", forged); code != exitFailure || !strings.Contains(errs, want) {
+		t.Errorf("fingerprint: exit %d, %q, want exit 1 and %q", code, errs, want)
+	}
+	code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", forged)
+	if code != exitBadInput || !strings.Contains(errs, want) {
+		t.Errorf("import: exit %d: %s, want %q", code, errs, want)
 	}
 }

@@ -262,7 +262,10 @@ func (r Record) validate(fits []elicit.Fit) error {
 	if err := r.CheckChain(); err != nil {
 		return err
 	}
-	return r.CheckDefinitions()
+	if err := r.CheckDefinitions(); err != nil {
+		return err
+	}
+	return r.CheckRounds()
 }
 
 // checkConsensusFit checks that a prior agreed from a consensus judgement

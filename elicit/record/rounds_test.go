@@ -1,0 +1,63 @@
+package record
+
+import (
+	"errors"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// CheckRounds: a revision chained after its round's close, with no
+// reopening between, is refused at its path; one in a reopened round, one
+// stamped before its own round opened (a save that waited behind the
+// close and the opening), and one in the very microsecond of the close
+// (the chain puts a revision before an event of its time) are not.
+func TestCheckRounds(t *testing.T) {
+	t0 := time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC)
+	at := func(min int) time.Time { return t0.Add(time.Duration(min) * time.Minute) }
+	ev := func(id int64, kind workshop.EventKind, min int, detail string) workshop.Event {
+		return workshop.Event{ID: id, WorkshopID: 1, Kind: kind, At: at(min), Detail: detail}
+	}
+	rev := func(id int64, round, min int) Revision {
+		return Revision{Revision: workshop.Revision{ID: id, QuestionID: 1, ExpertID: 1, Round: round, At: at(min)}}
+	}
+	events := []workshop.Event{
+		ev(1, workshop.EventWorkshopCreated, 0, ""),
+		ev(2, workshop.EventRoundClosed, 10, `{"round":1}`),
+		ev(3, workshop.EventRoundReopened, 20, `{"round":1}`),
+		ev(4, workshop.EventRoundClosed, 30, `{"round":1}`),
+		ev(5, workshop.EventRoundOpened, 40, `{"round":2}`),
+		ev(6, workshop.EventRoundClosed, 50, `{"round":2}`),
+	}
+	for _, c := range []struct {
+		name string
+		revs []Revision
+		bad  string // the path refused; "" for none
+	}{
+		{"each in its round", []Revision{rev(1, 1, 5), rev(2, 1, 25), rev(3, 2, 45)}, ""},
+		{"in the microsecond of the close", []Revision{rev(1, 1, 10)}, ""},
+		{"round 2 stamped before it opened", []Revision{rev(1, 1, 5), rev(2, 2, 35)}, ""},
+		{"round 1 after its close", []Revision{rev(1, 1, 5), rev(2, 1, 15)}, "revisions[1].round"},
+		{"round 1 after its second close", []Revision{rev(1, 1, 5), rev(2, 1, 35)}, "revisions[1].round"},
+		{"round 1 in round 2", []Revision{rev(1, 2, 45), rev(2, 1, 46)}, "revisions[1].round"},
+		{"round 2 after its close", []Revision{rev(1, 2, 45), rev(2, 2, 55)}, "revisions[1].round"},
+	} {
+		r := Record{Events: events, Revisions: c.revs}
+		err := r.CheckRounds()
+		var ie *elicit.InputError
+		switch {
+		case c.bad == "" && err != nil:
+			t.Errorf("%s: %v", c.name, err)
+		case c.bad == "":
+		case !errors.As(err, &ie) || ie.Field != c.bad || ie.Rule != RuleSavedInItsRound:
+			t.Errorf("%s: %v, want %s: %s", c.name, err, c.bad, RuleSavedInItsRound)
+		}
+	}
+	// A record without round events (narrowed, or made before them)
+	// has nothing to replay.
+	if err := (Record{Revisions: []Revision{rev(1, 3, 5)}}).CheckRounds(); err != nil {
+		t.Errorf("no round events: %v", err)
+	}
+}
