@@ -35,8 +35,8 @@ func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 	if err != nil {
 		return err
 	}
-	at := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
+		at := now() // in the writer's turn (SaveRevision)
 		if err := workshopExists(ctx, tx, w.WorkshopID); err != nil {
 			return err
 		}
@@ -216,8 +216,8 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 	if err != nil {
 		return err
 	}
-	at := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
+		at := now() // in the writer's turn (SaveRevision)
 		var (
 			workshopID int64
 			round      int

@@ -18,8 +18,8 @@ func (db *DB) AddExpert(ctx context.Context, e *workshop.Expert, tokenHash []byt
 	if len(tokenHash) == 0 {
 		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
 	}
-	created := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
+		created := now() // in the writer's turn (SaveRevision)
 		if err := workshopExists(ctx, tx, e.WorkshopID); err != nil {
 			return err
 		}

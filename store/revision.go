@@ -34,9 +34,10 @@ func (db *DB) SaveRevision(ctx context.Context, r *workshop.Revision) error {
 	if err != nil {
 		return err
 	}
-	at := now()
 	return db.writeRevision(ctx, func(tx *sql.Tx) error {
-		return saveRevision(ctx, tx, r, values, counts, at)
+		// Stamped in the writer's turn, so that the record's time order
+		// (the fingerprint's chain) is the order of the commits.
+		return saveRevision(ctx, tx, r, values, counts, now())
 	})
 }
 
@@ -133,12 +134,12 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 			return err
 		}
 	}
-	at := now()
 	write := db.writeRevision
 	if also != nil {
 		write = db.write // an event is a row the cache may hold
 	}
 	return write(ctx, func(tx *sql.Tx) error {
+		at := now() // in the writer's turn (SaveRevision)
 		for i := range rs {
 			if err := saveRevision(ctx, tx, &rs[i], enc[i].values, enc[i].counts, at); err != nil {
 				return &workshop.RevisionRefused{Index: i, Err: err}

@@ -23,11 +23,11 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 	if err := d.Validate(); err != nil {
 		return err
 	}
-	at := now()
-	if err := d.CheckObservedBy(at); err != nil {
-		return err
-	}
 	return db.write(ctx, func(tx *sql.Tx) error {
+		at := now() // in the writer's turn (SaveRevision)
+		if err := d.CheckObservedBy(at); err != nil {
+			return err
+		}
 		var workshopID int64
 		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM questions WHERE id = ?`, d.QuestionID).Scan(&workshopID)
 		if errors.Is(err, sql.ErrNoRows) {

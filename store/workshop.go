@@ -23,8 +23,8 @@ const nextWorkshopID = `(SELECT MAX(n) + 1 FROM (SELECT COALESCE(MAX(id), 0) AS 
 // CreateWorkshop saves a new workshop in round 1, open, and records
 // EventWorkshopCreated. It sets w's ID, Created, Round and Open.
 func (db *DB) CreateWorkshop(ctx context.Context, w *workshop.Workshop) error {
-	created := now()
 	return db.write(ctx, func(tx *sql.Tx) error {
+		created := now() // in the writer's turn (SaveRevision)
 		res, err := tx.ExecContext(ctx,
 			`INSERT INTO workshops (id, title, purpose, decision, notes, round, round_open, invented, created)
 			 VALUES (`+nextWorkshopID+`, ?, ?, ?, ?, 1, 1, ?, ?)`,

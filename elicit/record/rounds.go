@@ -25,9 +25,10 @@ const RuleSavedInItsRound elicit.Rule = "must have been saved while its round wa
 // revisions in the chain's order (their time, a revision before an event
 // of the same time, then id) and refuses a revision of a round closed, and
 // not reopened, before it (RuleSavedInItsRound, at revisions[i].round). A
-// revision may come before its round's opening: a save takes its time as
-// it starts and may wait behind the writes that close the round before and
-// open its own, which it then joins, so no noted value covers it wrongly.
+// revision may come before its round's opening: until the store stamped
+// each write in the writer's turn, a save took its time as it started and
+// could wait behind the writes that closed the round before and opened
+// its own, which it then joined.
 func (r Record) CheckRounds() error {
 	type step struct {
 		rev   int // index in r.Revisions; -1 for an event
