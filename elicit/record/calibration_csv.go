@@ -129,7 +129,32 @@ func expertColumn(experts []workshop.Expert) map[string]string {
 	return out
 }
 
-// oneLine keeps a comment on its line.
+// oneLine keeps a comment on its line, and keeps each cell a spreadsheet
+// splits the line into from running as a formula. The line starts with
+// "#"; a spreadsheet splits it at each comma (at each semicolon where that
+// is the list separator) whatever the command does with it, and a title
+// "Seals,=HYPERLINK(…)" made a cell that ran. A cell whose first letter
+// after spaces and quotes is one cell guards (=, +, -, @) gets the same
+// apostrophe before it.
 func oneLine(s string) string {
-	return strings.Join(strings.Fields(s), " ")
+	s = strings.Join(strings.Fields(s), " ")
+	var b strings.Builder
+	cellStarts := false
+	for _, r := range s {
+		if cellStarts {
+			switch {
+			case r == ' ' || r == '"':
+			case strings.ContainsRune("=+-@", r):
+				b.WriteByte('\'')
+				cellStarts = false
+			default:
+				cellStarts = false
+			}
+		}
+		b.WriteRune(r)
+		if r == ',' || r == ';' {
+			cellStarts = true
+		}
+	}
+	return b.String()
 }
