@@ -406,3 +406,37 @@ func TestFingerprintAnswerAddedToAClosedRound(t *testing.T) {
 		t.Errorf("import: exit %d: %s, want %q", code, errs, want)
 	}
 }
+
+// The workshop's round_open is not bound to any event: set again in the
+// database after round 1 closed, without round_reopened, it let answers
+// into round 1 through Parley itself. They come after round 1's close in
+// the chain, and the record refuses them as an answer INSERTed there.
+func TestFingerprintAnswerSavedInARoundOpenedWithoutAnEvent(t *testing.T) {
+	path, wid, qid := cliWorkshop(t)
+	ctx := context.Background()
+	db, err := store.Open(path)
+	check(t, err)
+	check(t, db.SetRound(ctx, wid, 1, false, "everyone has answered"))
+	check(t, db.Close())
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	if _, err := raw.Exec(`UPDATE workshops SET round_open = 1 WHERE id = ?`, wid); err != nil {
+		t.Fatal(err)
+	}
+	check(t, raw.Close())
+	db, err = store.Open(path)
+	check(t, err)
+	es, err := db.Experts(ctx, wid)
+	check(t, err)
+	r := workshop.Revision{QuestionID: qid, ExpertID: es[1].ID, Reason: "after the close",
+		Answer: workshop.Answer{Values: []float64{0.3, 0.5, 0.7}}}
+	check(t, db.SaveRevision(ctx, &r))
+	check(t, db.Close())
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	if code, _, errs := run("fingerprint", "--in", file); code != exitFailure || !strings.Contains(errs, ".round: "+string(record.RuleSavedInItsRound)) {
+		t.Errorf("fingerprint: exit %d, %q", code, errs)
+	}
+}
