@@ -87,6 +87,13 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			disagrees = "an answer comes after its round closed (it was added later)"
 		}
 	}
+	// A weight set, an agreed prior or a batch of study data is written
+	// with its entry in the decision log.
+	if own == nil {
+		if own = rec.CheckLogged(); own != nil {
+			disagrees = "a decision is in the record without its entry in the decision log (it was added later)"
+		}
+	}
 	// The weights in force and each question's agreed_prior, the
 	// record's headline numbers, are copies of their histories' last,
 	// which the chain covers.

@@ -440,3 +440,38 @@ func TestFingerprintAnswerSavedInARoundOpenedWithoutAnEvent(t *testing.T) {
 		t.Errorf("fingerprint: exit %d, %q", code, errs)
 	}
 }
+
+// A weight set or an agreed prior INSERTed into the database (the
+// append-only triggers allow inserts), stamped after every noted value,
+// changed the weights in force or the record's headline prior with no
+// entry in the decision log, which the facilitator and a reviewer read;
+// parley fingerprint said nothing. Parley writes each with its event in
+// one transaction at one time: fingerprint now exits 1 naming the item.
+func TestFingerprintDecisionWithoutItsLogEntry(t *testing.T) {
+	for _, c := range []struct {
+		name, insert, want string
+	}{
+		{"weight set", `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at)
+			SELECT id, 'custom', '{}', 'set quietly', ? FROM workshops`, "weight_history[0]: " + string(record.RuleNotLogged)},
+		{"agreed prior", `INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, at,
+			round_open, weight_set_id, construction, pooled_revisions)
+			SELECT question_id, source, 40, 4, lower, upper, consensus, 'agreed quietly', round, ?, round_open, weight_set_id, construction, pooled_revisions
+			FROM agreed_priors WHERE id = (SELECT MAX(id) FROM agreed_priors)`, "questions[0].prior_history[2]: " + string(record.RuleNotLogged)},
+	} {
+		path, wid := closedRoundWorkshop(t)
+		raw, err := sql.Open("sqlite3", path)
+		check(t, err)
+		if _, err := raw.Exec(c.insert, time.Now().UTC().Format(time.RFC3339Nano)); err != nil {
+			t.Fatalf("%s: %v", c.name, err)
+		}
+		check(t, raw.Close())
+		file := filepath.Join(t.TempDir(), "record.json")
+		if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+			t.Fatalf("%s: export: %s", c.name, errs)
+		}
+		code, _, errs := run("fingerprint", "--in", file)
+		if code != exitFailure || !strings.Contains(errs, "a decision is in the record without its entry in the decision log (it was added later): elicit: "+c.want) {
+			t.Errorf("%s: fingerprint: exit %d, %q, want exit 1 and %q", c.name, code, errs, c.want)
+		}
+	}
+}

@@ -89,3 +89,65 @@ func (r Record) CheckRounds() error {
 	}
 	return nil
 }
+
+// RuleNotLogged is broken by a weight set, an agreed prior or a batch of
+// study data without its entry in the decision log: Parley writes each
+// with its event (weights_set, prior_agreed, study_data_recorded) in one
+// transaction, at one time, so one without was added behind its back. A
+// weight set or an agreed prior INSERTed into the database (the
+// append-only triggers allow inserts) changed the weights in force or the
+// record's headline prior while the decision log, which the facilitator
+// and a reviewer read, said nothing of it.
+const RuleNotLogged elicit.Rule = "must have its entry in the decision log, written with it (it was added without one)"
+
+// CheckLogged refuses a weight set of weight_history, an agreement of a
+// question's prior_history or a batch of study_data of a question in the
+// record that has no event of its kind, question and time
+// (RuleNotLogged), each event answering for one item. parley fingerprint
+// runs it; Parse does not, since records written by hand for tests and
+// examples carry decisions without their events.
+func (r Record) CheckLogged() error {
+	type key struct {
+		kind     workshop.EventKind
+		question int64
+		at       string
+	}
+	stamp := func(t time.Time) string { return t.UTC().Format(time.RFC3339Nano) }
+	logged := map[key]int{}
+	for _, e := range r.Events {
+		switch e.Kind {
+		case workshop.EventWeightsSet, workshop.EventPriorAgreed, workshop.EventDataRecorded:
+			logged[key{e.Kind, e.QuestionID, stamp(e.At)}]++
+		}
+	}
+	take := func(path string, k key, what string, id int64) error {
+		if logged[k] == 0 {
+			return inputErr(path, RuleNotLogged, "%s %d at %s has no %s event of that time", what, id, k.at, k.kind)
+		}
+		logged[k]--
+		return nil
+	}
+	for i, w := range r.WeightHistory {
+		if err := take(fmt.Sprintf("weight_history[%d]", i), key{workshop.EventWeightsSet, 0, stamp(w.At)}, "weight set", w.ID); err != nil {
+			return err
+		}
+	}
+	questions := map[int64]bool{}
+	for i, q := range r.Questions {
+		questions[q.ID] = true
+		for j, ap := range q.PriorHistory {
+			if err := take(fmt.Sprintf("questions[%d].prior_history[%d]", i, j), key{workshop.EventPriorAgreed, q.ID, stamp(ap.At)}, "agreed prior", ap.ID); err != nil {
+				return err
+			}
+		}
+	}
+	for i, d := range r.StudyData {
+		if !questions[d.QuestionID] {
+			continue // a record narrowed to one question keeps every batch, and that question's events
+		}
+		if err := take(fmt.Sprintf("study_data[%d]", i), key{workshop.EventDataRecorded, d.QuestionID, stamp(d.At)}, "batch of study data", d.ID); err != nil {
+			return err
+		}
+	}
+	return nil
+}

@@ -2,6 +2,7 @@ package record
 
 import (
 	"errors"
+	"slices"
 	"testing"
 	"time"
 
@@ -59,5 +60,50 @@ func TestCheckRounds(t *testing.T) {
 	// has nothing to replay.
 	if err := (Record{Revisions: []Revision{rev(1, 3, 5)}}).CheckRounds(); err != nil {
 		t.Errorf("no round events: %v", err)
+	}
+}
+
+// CheckLogged: each weight set, agreement and batch of study data needs
+// an event of its kind, question and time, one event for one item; a
+// batch of a question the record does not hold (a narrowed record) is
+// not asked for one.
+func TestCheckLogged(t *testing.T) {
+	t0 := time.Date(2026, 3, 2, 9, 0, 0, 0, time.UTC)
+	at := func(min int) time.Time { return t0.Add(time.Duration(min) * time.Minute) }
+	base := func() Record {
+		return Record{
+			WeightHistory: []workshop.Weights{{ID: 1, WorkshopID: 1, At: at(1)}},
+			Questions: []Question{{Question: workshop.Question{ID: 5},
+				PriorHistory: []workshop.AgreedPrior{{ID: 2, QuestionID: 5, At: at(2)}}}},
+			StudyData: []workshop.StudyData{{ID: 3, QuestionID: 5, At: at(3)}, {ID: 4, QuestionID: 6, At: at(4)}},
+			Events: []workshop.Event{
+				{ID: 10, Kind: workshop.EventWeightsSet, At: at(1)},
+				{ID: 11, QuestionID: 5, Kind: workshop.EventPriorAgreed, At: at(2)},
+				{ID: 12, QuestionID: 5, Kind: workshop.EventDataRecorded, At: at(3)},
+			},
+		}
+	}
+	if err := base().CheckLogged(); err != nil {
+		t.Fatalf("each with its event: %v", err)
+	}
+	for _, c := range []struct {
+		name, bad string
+		edit      func(r *Record)
+	}{
+		{"a second weight set at the first's time", "weight_history[1]", func(r *Record) {
+			r.WeightHistory = append(r.WeightHistory, workshop.Weights{ID: 7, At: at(1)})
+		}},
+		{"an agreement at another time", "questions[0].prior_history[0]", func(r *Record) { r.Questions[0].PriorHistory[0].At = at(9) }},
+		{"an agreement's event on another question", "questions[0].prior_history[0]", func(r *Record) { r.Events[1].QuestionID = 6 }},
+		{"a batch without its event", "study_data[0]", func(r *Record) { r.Events = r.Events[:2] }},
+	} {
+		r := base()
+		r.Questions = []Question{{Question: r.Questions[0].Question, PriorHistory: slices.Clone(r.Questions[0].PriorHistory)}}
+		r.Events = slices.Clone(r.Events)
+		c.edit(&r)
+		var ie *elicit.InputError
+		if err := r.CheckLogged(); !errors.As(err, &ie) || ie.Field != c.bad || ie.Rule != RuleNotLogged {
+			t.Errorf("%s: %v, want %s: %s", c.name, err, c.bad, RuleNotLogged)
+		}
 	}
 }
