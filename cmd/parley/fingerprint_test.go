@@ -407,11 +407,20 @@ func TestFingerprintAnswerAddedToAClosedRound(t *testing.T) {
 	}
 }
 
-// The workshop's round_open is not bound to any event: set again in the
-// database after round 1 closed, without round_reopened, it let answers
-// into round 1 through Parley itself. They come after round 1's close in
-// the chain, and the record refuses them as an answer INSERTed there.
+// The workshop's round and round_open are not bound to any event: set
+// again in the database after round 1 closed, without round_reopened
+// (or moved on to round 2 without round_opened), they let answers in
+// through Parley itself. One comes after round 1's close in the chain,
+// the other is of a round no event opened, and the record refuses them
+// as an answer INSERTed there.
 func TestFingerprintAnswerSavedInARoundOpenedWithoutAnEvent(t *testing.T) {
+	for _, set := range []string{`UPDATE workshops SET round_open = 1 WHERE id = ?`, `UPDATE workshops SET round = 2, round_open = 1 WHERE id = ?`} {
+		answerSavedAfter(t, set)
+	}
+}
+
+func answerSavedAfter(t *testing.T, set string) {
+	t.Helper()
 	path, wid, qid := cliWorkshop(t)
 	ctx := context.Background()
 	db, err := store.Open(path)
@@ -420,7 +429,7 @@ func TestFingerprintAnswerSavedInARoundOpenedWithoutAnEvent(t *testing.T) {
 	check(t, db.Close())
 	raw, err := sql.Open("sqlite3", path)
 	check(t, err)
-	if _, err := raw.Exec(`UPDATE workshops SET round_open = 1 WHERE id = ?`, wid); err != nil {
+	if _, err := raw.Exec(set, wid); err != nil {
 		t.Fatal(err)
 	}
 	check(t, raw.Close())
@@ -437,7 +446,7 @@ func TestFingerprintAnswerSavedInARoundOpenedWithoutAnEvent(t *testing.T) {
 		t.Fatalf("export: %s", errs)
 	}
 	if code, _, errs := run("fingerprint", "--in", file); code != exitFailure || !strings.Contains(errs, ".round: "+string(record.RuleSavedInItsRound)) {
-		t.Errorf("fingerprint: exit %d, %q", code, errs)
+		t.Errorf("%s: fingerprint: exit %d, %q", set, code, errs)
 	}
 }
 

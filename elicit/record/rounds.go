@@ -13,16 +13,18 @@ import (
 
 // RuleSavedInItsRound is broken by a revision of a round that comes, in
 // the chain's order, after that round's close with no reopening of it
-// between: Parley saves an answer only while its round is open (a save
+// between, or of a round no round_opened event opened: Parley saves an answer only while its round is open (a save
 // waiting while the round closes is refused), so such a revision was
 // added to the record behind its back. Stamped after the close, it left
 // every value noted at the close as it was, while the round's answers
 // (and the next round's feedback, and the expert's current answer) were
 // no longer the ones the room saw.
-const RuleSavedInItsRound elicit.Rule = "must have been saved while its round was open (it comes after the close of its round in the chain, and the round was not reopened)"
+const RuleSavedInItsRound elicit.Rule = "must have been saved while its round was open (by the events, its round had closed and was not reopened, or was never opened)"
 
-// CheckRounds replays the round_closed and round_reopened events with the
-// revisions in the chain's order (their time, a revision before an event
+// CheckRounds, for a record whose events close a round, refuses a
+// revision of a round that no round_opened event opened (round 1 is open
+// from the start), and replays the round_closed and round_reopened events
+// with the revisions in the chain's order (their time, a revision before an event
 // of the same time, then id) and refuses a revision of a round closed, and
 // not reopened, before it (RuleSavedInItsRound, at revisions[i].round). A
 // revision may come before its round's opening: until the store stamped
@@ -42,8 +44,9 @@ func (r Record) CheckRounds() error {
 		step step
 	}
 	var items []item
+	opened := map[int]bool{1: true} // a workshop is created in round 1, open
 	for _, e := range r.Events {
-		if e.Kind != workshop.EventRoundClosed && e.Kind != workshop.EventRoundReopened {
+		if e.Kind != workshop.EventRoundClosed && e.Kind != workshop.EventRoundReopened && e.Kind != workshop.EventRoundOpened {
 			continue
 		}
 		var d struct {
@@ -52,11 +55,24 @@ func (r Record) CheckRounds() error {
 		if json.Unmarshal([]byte(e.Detail), &d) != nil || d.Round < 1 {
 			continue
 		}
+		if e.Kind == workshop.EventRoundOpened {
+			opened[d.Round] = true
+			continue
+		}
 		items = append(items, item{at: e.At, rank: 5, id: e.ID,
 			step: step{rev: -1, close: e.Kind == workshop.EventRoundClosed, round: d.Round}})
 	}
 	if len(items) == 0 {
 		return nil
+	}
+	// A round that no round_opened event opened has no answers: the
+	// workshop's round, moved on in the database without the events, had
+	// let them in.
+	for i, rv := range r.Revisions {
+		if !opened[rv.Round] {
+			return inputErr(fmt.Sprintf("revisions[%d].round", i), RuleSavedInItsRound,
+				"revision %d is of round %d, which no round_opened event opened", rv.ID, rv.Round)
+		}
 	}
 	for i, rv := range r.Revisions {
 		items = append(items, item{at: rv.At, rank: 1, id: rv.ID, step: step{rev: i, round: rv.Round}})

@@ -44,6 +44,7 @@ func TestCheckRounds(t *testing.T) {
 		{"round 1 after its second close", []Revision{rev(1, 1, 5), rev(2, 1, 35)}, "revisions[1].round"},
 		{"round 1 in round 2", []Revision{rev(1, 2, 45), rev(2, 1, 46)}, "revisions[1].round"},
 		{"round 2 after its close", []Revision{rev(1, 2, 45), rev(2, 2, 55)}, "revisions[1].round"},
+		{"round 3, never opened", []Revision{rev(1, 2, 45), rev(2, 3, 55)}, "revisions[1].round"},
 	} {
 		r := Record{Events: events, Revisions: c.revs}
 		err := r.CheckRounds()
