@@ -1,12 +1,17 @@
 package store
 
 import (
+	"bytes"
 	"context"
 	"database/sql"
+	"errors"
+	"sync"
 	"testing"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/fingerprint"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -99,5 +104,85 @@ func TestWritesAreStampedInTheirTurn(t *testing.T) {
 			t.Errorf("%s committed after an event of %s but is stamped %s, before it: the chain puts it first",
 				c.name, ev.Format(time.RFC3339Nano), at.Format(time.RFC3339Nano))
 		}
+	}
+}
+
+// Experts save without pause while the rounds are closed, reopened and
+// opened, and weights are set: every value the chain had as a round
+// closed (what the room is shown) is still the chain's value at that
+// close once everything is in, and the record reads back whole, every
+// answer within its round (record.CheckRounds).
+func TestValuesNotedUnderConcurrentSavesStay(t *testing.T) {
+	db := newDB(t)
+	ctx := context.Background()
+	p := seed(t, db)
+	stop := make(chan struct{})
+	var wg sync.WaitGroup
+	for i, e := range p.experts {
+		wg.Add(1)
+		go func() {
+			defer wg.Done()
+			for n := 0; ; n++ {
+				select {
+				case <-stop:
+					return
+				default:
+				}
+				r := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: e.ID, Answer: quantileAnswer(0.2 + 0.01*float64((i+n)%20))}
+				if err := db.SaveRevision(ctx, &r); err != nil && !errors.Is(err, workshop.ErrRoundClosed) {
+					t.Error(err)
+					return
+				}
+			}
+		}()
+	}
+	noted := map[int64]fingerprint.Value{} // round_closed event id → the chain's value after it, read at once
+	note := func() {
+		t.Helper()
+		src, err := db.Source(ctx, p.w.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		c := fingerprint.Of(fingerprint.Facts{Workshop: src.Workshop, Revisions: src.Revisions, WeightSets: src.WeightHistory,
+			Priors: src.Priors, Data: src.Data, Events: src.Events}) // as the decision log and the room view have it
+		closes := c.RoundCloses()
+		last := closes[len(closes)-1]
+		noted[last.ID] = last.Value
+	}
+	pause := func() { time.Sleep(20 * time.Millisecond) }
+	pause()
+	must(t, db.SetRound(ctx, p.w.ID, 1, false, ""))
+	note()
+	must(t, db.ReopenRound(ctx, p.w.ID, "one more"))
+	pause()
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: p.w.ID, Scheme: workshop.WeightsEqual, Reason: "equal"}))
+	must(t, db.SetRound(ctx, p.w.ID, 1, false, ""))
+	note()
+	must(t, db.SetRound(ctx, p.w.ID, 2, true, "next"))
+	pause()
+	must(t, db.SetRound(ctx, p.w.ID, 2, false, ""))
+	note()
+	must(t, db.SetRound(ctx, p.w.ID, 3, true, "last"))
+	pause()
+	close(stop)
+	wg.Wait()
+
+	rec, err := db.Record(ctx, p.w.ID, time.Now())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var b bytes.Buffer
+	must(t, rec.WriteJSON(&b))
+	if _, err := record.Parse(&b); err != nil {
+		t.Fatalf("the record does not read back: %v", err)
+	}
+	c := fingerprint.Of(rec.Facts())
+	for _, l := range c.RoundCloses() {
+		if want, ok := noted[l.ID]; !ok || l.Value != want {
+			t.Errorf("round %d's close (event %d): the chain now gives %s, the room was shown %s", l.Closed, l.ID, l.Value.Short(), want.Short())
+		}
+	}
+	if len(rec.Revisions) < 6 {
+		t.Errorf("only %d saves: the test needs saves around the closes", len(rec.Revisions))
 	}
 }

@@ -12,25 +12,30 @@ import (
 )
 
 // RuleSavedInItsRound is broken by a revision of a round that comes, in
-// the chain's order, after that round's close with no reopening of it
-// between, or of a round no round_opened event opened: Parley saves an answer only while its round is open (a save
+// the chain's order, after that round's final close (no reopening of it
+// follows), or of a round no round_opened event opened: Parley saves an answer only while its round is open (a save
 // waiting while the round closes is refused), so such a revision was
 // added to the record behind its back. Stamped after the close, it left
 // every value noted at the close as it was, while the round's answers
 // (and the next round's feedback, and the expert's current answer) were
 // no longer the ones the room saw.
-const RuleSavedInItsRound elicit.Rule = "must have been saved while its round was open (by the events, its round had closed and was not reopened, or was never opened)"
+const RuleSavedInItsRound elicit.Rule = "must have been saved while its round was open (by the events, its round had closed for good, or was never opened)"
 
 // CheckRounds, for a record whose events close a round, refuses a
 // revision of a round that no round_opened event opened (round 1 is open
 // from the start), and replays the round_closed and round_reopened events
 // with the revisions in the chain's order (their time, a revision before an event
-// of the same time, then id) and refuses a revision of a round closed, and
-// not reopened, before it (RuleSavedInItsRound, at revisions[i].round). A
-// revision may come before its round's opening: until the store stamped
+// of the same time, then id) and refuses a revision of a round that comes
+// after that round's final close, the one no reopening follows
+// (RuleSavedInItsRound, at revisions[i].round). Until the store stamped
 // each write in the writer's turn, a save took its time as it started and
-// could wait behind the writes that closed the round before and opened
-// its own, which it then joined.
+// could wait behind the writes that changed the rounds, then join the
+// round open when it wrote: so a revision may come before its round's
+// opening, or between a close of its round and that round's reopening.
+// Neither moves a value noted at a close the record still shows as final
+// (one in a round reopened later comes before that round's next close,
+// whose value it is in). A revision after the final close is one Parley
+// never saves.
 func (r Record) CheckRounds() error {
 	type step struct {
 		rev   int // index in r.Revisions; -1 for an event
@@ -86,21 +91,28 @@ func (r Record) CheckRounds() error {
 		}
 		return cmp.Compare(a.id, b.id)
 	})
-	closed := map[int]int64{} // round → the event that closed it, while it stays closed
-	for _, it := range items {
-		s := it.step
-		switch {
+	// A round's final close: the close after which no reopening of it
+	// comes, by its place in the chain's order.
+	type final struct {
+		at int   // index in items
+		id int64 // the event
+	}
+	finals := map[int]final{}
+	for i, it := range items {
+		switch s := it.step; {
 		case s.rev < 0 && s.close:
-			closed[s.round] = it.id
+			finals[s.round] = final{i, it.id}
 		case s.rev < 0:
-			delete(closed, s.round)
-		default:
-			if ev, ok := closed[s.round]; ok {
-				rv := r.Revisions[s.rev]
-				return inputErr(fmt.Sprintf("revisions[%d].round", s.rev), RuleSavedInItsRound,
-					"revision %d of round %d at %s comes after event %d, which closed round %d",
-					rv.ID, s.round, rv.At.UTC().Format("2006-01-02 15:04:05.999999 UTC"), ev, s.round)
-			}
+			delete(finals, s.round)
+		}
+	}
+	for i, it := range items {
+		s := it.step
+		if f, ok := finals[s.round]; s.rev >= 0 && ok && i > f.at {
+			rv := r.Revisions[s.rev]
+			return inputErr(fmt.Sprintf("revisions[%d].round", s.rev), RuleSavedInItsRound,
+				"revision %d of round %d at %s comes after event %d, which closed round %d for good",
+				rv.ID, s.round, rv.At.UTC().Format("2006-01-02 15:04:05.999999 UTC"), f.id, s.round)
 		}
 	}
 	return nil
