@@ -145,6 +145,7 @@
         if (html === null || ticket !== latest) {
           return;
         }
+        keepRoom();
         target.innerHTML = html;
         said.textContent = brief();
         target.setAttribute("data-updated", String(ticket));
@@ -163,6 +164,23 @@
         }
       });
     }
+    // keepRoom holds the preview at the tallest it has been drawn, before
+    // it is drawn again: the form, Save among it, stands above the
+    // preview, and a picture followed by a line saying what stops the
+    // fit shortened the page by a screen; the browser, scrolled past the
+    // page's new end, scrolled up, and Save moved down the screen under
+    // the expert's thumb as she tapped it. A new width (a phone turned)
+    // lays the picture out afresh, so the room held is let go.
+    var width = window.innerWidth;
+    function keepRoom() {
+      target.style.minHeight = target.getBoundingClientRect().height + "px";
+    }
+    window.addEventListener("resize", function () {
+      if (window.innerWidth !== width) {
+        width = window.innerWidth;
+        target.style.minHeight = "";
+      }
+    });
     // bringIntoView scrolls the fit to the screen's top; where the
     // focus is on a button just above it (Show the fit, by keyboard or
     // tap), to the button instead, so the focus stays in view: scrolled
