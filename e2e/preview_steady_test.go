@@ -62,7 +62,7 @@ func TestSaveStaysPutWhileThePreviewRedraws(t *testing.T) {
 			t.Fatalf("%s: Save stands at %.0f px, out of view under the third box", vp.name, top)
 		}
 		for _, step := range []struct{ typed, what, drawn string }{
-			{"12,5", "what stops the fit", `!!p.querySelector(".preview-problem")`},
+			{"12..5", "what stops the fit", `!!p.querySelector(".preview-problem")`},
 			{"12.5", "the fit again", `p.querySelectorAll("svg.chart-wide circle.stated").length === 3`},
 			{"", "what stops the fit", `!!p.querySelector(".preview-problem")`},
 			{"30", "the fit of a wider range", `p.innerText.includes("30%")`},

@@ -25,9 +25,9 @@ func TestRefusedSaveSurvivesReloadAndBack(t *testing.T) {
 	save := `form.answer-form button[formaction$="/save"]`
 	carmen.viewport(390, 844, true)
 	carmen.open(q4)
-	typeValues(carmen, "2", "3,5", "6")
+	typeValues(carmen, "2", "3..5", "6")
 	carmen.fill(`form.answer-form`, "reason", "From the repair log (invented).")
-	if st := carmen.load("save with a decimal comma", chromedp.Click(chromedp.CSS(save))); st != http.StatusUnprocessableEntity {
+	if st := carmen.load("save with a value typed with two points", chromedp.Click(chromedp.CSS(save))); st != http.StatusUnprocessableEntity {
 		t.Fatalf("status %d, want 422", st)
 	}
 	if u := carmen.url(); u != q4 {
@@ -39,7 +39,7 @@ func TestRefusedSaveSurvivesReloadAndBack(t *testing.T) {
 		t.Errorf("reload: status %d, want the question page's 200", st)
 	}
 	got := []string{carmen.value(`[name="values[0]"]`), carmen.value(`[name="values[1]"]`), carmen.value(`[name="values[2]"]`), carmen.value(`[name=reason]`)}
-	if strings.Join(got, "|") != "2|3,5|7|From the repair log (invented)." {
+	if strings.Join(got, "|") != "2|3..5|7|From the repair log (invented)." {
 		t.Errorf("after a reload the form holds %q, want what was typed", got)
 	}
 	shots.take(carmen, "refused-reload-390")

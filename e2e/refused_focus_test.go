@@ -36,8 +36,8 @@ func TestRefusedAnswerFocusesTheFirstMarkedField(t *testing.T) {
 	}
 	carmen.viewport(390, 844, true)
 	carmen.open(link + "q/" + strconv.FormatInt(g.qs[3].ID, 10))
-	typeValues(carmen, "2", "3,5", "")
-	if st := carmen.load("save with a comma and a gap", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusUnprocessableEntity {
+	typeValues(carmen, "2", "3..5", "")
+	if st := carmen.load("save with two points and a gap", chromedp.Click(chromedp.CSS(`form.answer-form button[formaction$="/save"]`))); st != http.StatusUnprocessableEntity {
 		t.Fatalf("status %d, want 422", st)
 	}
 	focused(carmen, "the expert's refused save", "f-values-1")

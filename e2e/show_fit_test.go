@@ -68,7 +68,7 @@ func TestShowTheFitStaysOnThePage(t *testing.T) {
 
 	// Values that stop the fit: the button posts the form, and the page
 	// that comes back marks the field to put right, with the focus on it.
-	typeValues(carmen, "2", "3,5", "6")
+	typeValues(carmen, "2", "3..5", "6")
 	if st := carmen.load("Show the fit of an unreadable value", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`))); st != http.StatusUnprocessableEntity {
 		t.Errorf("Show the fit of an unreadable value: status %d, want the marked page's 422", st)
 	}

@@ -3,6 +3,7 @@ package web
 import (
 	"errors"
 	"fmt"
+	"regexp"
 	"strconv"
 	"strings"
 	"unicode/utf8"
@@ -41,7 +42,13 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 	asPercent := q.IsProportion() && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
-		v, pct, err := workshop.ParseAnswerNumber(name, f.Value(name), q, asPercent)
+		typedText, ambiguous := decimalComma(f.Value(name))
+		if ambiguous != "" {
+			f.set(name, ambiguous)
+			count++
+			return 0
+		}
+		v, pct, err := workshop.ParseAnswerNumber(name, typedText, q, asPercent)
 		if err != nil {
 			f.set(name, expertWords(q, f, err, sp))
 		}
@@ -56,8 +63,12 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		a.Lowest = value("lowest")
 		a.Highest = value("highest")
 		a.Best = value("best")
-		c, err := workshop.ParseConfidence(f.Value("confidence"))
-		if err != nil {
+		typedText, ambiguous := decimalComma(f.Value("confidence"))
+		c, err := workshop.ParseConfidence(typedText)
+		switch {
+		case ambiguous != "":
+			f.set("confidence", ambiguous)
+		case err != nil:
 			f.set("confidence", expertWords(q, f, err, sp))
 		}
 		a.Confidence = c
@@ -87,7 +98,7 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		// field that could not be read is not compared with its neighbour.
 		// A value's own rule (within the bounds) stands whatever its
 		// neighbour holds: "2" under an unreadable "0,1" was passed over,
-		// and refused only once the comma was put right.
+		// and refused only once the typing slip was put right.
 		for _, p := range ps {
 			field := answerField(q, p.Field)
 			if unread && (f.Error(field) != "" || field == "" || p.Rule == elicit.RuleValueIncreasing && f.Error(comparedWith(p.Field)) != "") {
@@ -123,6 +134,33 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		return a, fit, false
 	}
 	return a, fit, true
+}
+
+// commaDecimal is a number written with one comma between its whole part
+// and its decimals, and perhaps a % sign.
+var commaDecimal = regexp.MustCompile(`^\s*([+-]?)([0-9]*),([0-9]+)\s*(%?)\s*$`)
+
+// decimalComma reads a decimal comma as a point on the expert's form: a
+// phone's number keyboard set to a language that writes 0,05 shows a
+// comma and no point (the iPhone's decimal pad shows only the language's
+// separator), so an expert there could type no decimal at all, and each
+// "0,05" was refused as "not a number". One comma between digits, no
+// point: "0,05" is 0.05 and "12,5%" is 12.5%, as the read-backs then show.
+// Three digits after a whole part of one to three digits other than 0
+// ("1,500") is also how a thousands separator writes 1500: that is not
+// guessed, and ambiguous says so, naming both readings. Anything else is
+// returned as typed, for the number rules to judge.
+func decimalComma(typed string) (text, ambiguous string) {
+	m := commaDecimal.FindStringSubmatch(typed)
+	if m == nil {
+		return typed, ""
+	}
+	sign, whole, frac, pct := m[1], m[2], m[3], m[4]
+	if len(frac) == 3 && whole != "" && len(whole) <= 3 && strings.Trim(whole, "0") != "" {
+		point, thousands := sign+whole+"."+frac+pct, sign+whole+frac+pct
+		return typed, "“" + strings.TrimSpace(typed) + "” could be " + point + " or " + thousands + ": please type " + point + " with a point, or " + thousands + " without the comma."
+	}
+	return sign + whole + "." + frac + pct, ""
 }
 
 // comparedWith is the field a value must exceed ("" for none).

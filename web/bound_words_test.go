@@ -49,7 +49,7 @@ func TestValueAtABoundIsToldItsEnds(t *testing.T) {
 
 // TestOutOfRangeBesideAnUnreadableValue: every field's own problem shows
 // at once. A value beyond the bounds under a value that could not be read
-// ("0,1") was passed over, because its neighbour could not be compared
+// ("0..1") was passed over, because its neighbour could not be compared
 // with it, and refused only on the next save.
 func TestOutOfRangeBesideAnUnreadableValue(t *testing.T) {
 	g := newExpertRig(t)
@@ -60,7 +60,7 @@ func TestOutOfRangeBesideAnUnreadableValue(t *testing.T) {
 		id   string
 		want string
 	}{
-		{"quantiles", g.qpath(0, g.q), quantiles("5%", "0,1", "2"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 2."},
+		{"quantiles", g.qpath(0, g.q), quantiles("5%", "0..1", "2"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 2."},
 		{"interval", g.qpath(0, g.qi), url.Values{"lowest": {"abc"}, "best": {"1.5"}, "highest": {"0.6"}, "confidence": {"80"}}, "f-best", "Must be between 0 and 1 (0% and 100%); you typed 1.5."},
 	} {
 		t.Run(c.name, func(t *testing.T) {
@@ -75,7 +75,7 @@ func TestOutOfRangeBesideAnUnreadableValue(t *testing.T) {
 	}
 	// The unreadable value is not also said to be smaller than the one
 	// above it.
-	_, body := g.post(g.qpath(0, g.q)+"/save", quantiles("0.05", "0,1", "0.5"))
+	_, body := g.post(g.qpath(0, g.q)+"/save", quantiles("0.05", "0..1", "0.5"))
 	if msg := shownError(body, "f-values-1"); !strings.Contains(msg, "is not a number Parley can read") {
 		t.Errorf("beside the unreadable value: %q", msg)
 	}
