@@ -227,6 +227,8 @@ type formField struct {
 	Value  string
 	Error  string
 	Suffix string // "%" for confidence
+	// Keyboard is the box's inputmode, the keyboard a phone shows.
+	Keyboard string
 	// FollowsUnit marks a value box whose "%" follows the unit choice
 	// ("As percentages" shows it): the page's script shows or hides the
 	// sign when the choice changes, before the form is sent.
@@ -397,7 +399,7 @@ func newAnswerForm(q workshop.Question, typed map[string]string, sp speaker) ans
 		}
 		f.Fields = append(f.Fields, formField{
 			Name: name, ID: "f-" + strings.NewReplacer("[", "-", "]", "").Replace(name),
-			Label: label, Hint: hint, Value: value, Suffix: suffix,
+			Label: label, Hint: hint, Value: value, Suffix: suffix, Keyboard: inputMode(q, name),
 			FollowsUnit: f.Proportion && name != "confidence" && q.Format != workshop.FormatChips,
 		})
 	}
@@ -651,11 +653,17 @@ func answerValues(q workshop.Question, a workshop.Answer) map[string]string {
 	return m
 }
 
-// inputMode asks a phone for the keypad a format needs: whole numbers
-// for chips, decimals otherwise.
-func inputMode(f workshop.AnswerFormat) string {
-	if f == workshop.FormatChips {
+// inputMode asks a phone for the keypad a field needs: whole numbers for
+// chips, decimals otherwise. A phone's decimal keypad (the iPhone's) has
+// no minus key, so a value of a question whose lower bound is below 0
+// takes the full keyboard: with the keypad no negative value could be
+// typed at all. The confidence is a percentage, never negative.
+func inputMode(q workshop.Question, name string) string {
+	switch {
+	case q.Format == workshop.FormatChips:
 		return "numeric"
+	case q.Lower < 0 && name != "confidence":
+		return "text"
 	}
 	return "decimal"
 }
