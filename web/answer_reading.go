@@ -495,3 +495,44 @@ func strictlyBetween(q workshop.Question, f *Form) string {
 	}
 	return "above 0 and below 1 (above 0% and below 100%)"
 }
+
+// unitSlip is a warning for values typed as proportions on a form set to
+// percentages: the choice of percentages carries from the expert's last
+// answer to the next question, and an expert who typed 0.02, 0.04 and
+// 0.08 there, meaning proportions, had them read as 0.02%, 0.04% and
+// 0.08%, said only by the first read-back. Where every value was typed
+// without a % sign and at most 1, the preview says how they are read and
+// what the largest would be as a proportion. A rare event's percentages
+// meet the warning too; it asks nothing of them. "" where it does not
+// apply.
+func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) string {
+	if !q.ValuesInPercent() || f.Value("unit") != unitPercent {
+		return ""
+	}
+	var names []string
+	var values []float64
+	switch q.Format {
+	case workshop.FormatInterval:
+		names, values = []string{"lowest", "best", "highest"}, []float64{a.Lowest, a.Best, a.Highest}
+	default:
+		for i, v := range a.Values {
+			names, values = append(names, fmt.Sprintf("values[%d]", i)), append(values, v)
+		}
+	}
+	largest := -1
+	for i, name := range names {
+		if strings.HasSuffix(strings.TrimSpace(f.Value(name)), "%") || values[i] > 0.01 {
+			return ""
+		}
+		if largest < 0 || values[i] > values[largest] {
+			largest = i
+		}
+	}
+	if largest < 0 {
+		return ""
+	}
+	typed := strings.TrimSpace(f.Value(names[largest]))
+	return sp.pick("You chose percentages, so ", "The form is set to percentages, so ") + typed + " is read as " + typed + "%. " +
+		sp.pick("If you meant", "If %s meant") + " proportions, " + typed + " is " + chart.FormatPercent(values[largest]*100) +
+		": choose “As proportions” above, or type " + chart.FormatPercent(values[largest]*100) + "."
+}

@@ -872,6 +872,9 @@ func (s *Server) expertPreviewPost(w http.ResponseWriter, r *http.Request) {
 	var p *previewView
 	if ok {
 		p = newPreview(sc.question, fit, a.Percent, speaker{})
+		if w := unitSlip(sc.question, f, a, speaker{}); w != "" {
+			p.Warnings = append([]string{w}, p.Warnings...)
+		}
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.question, nil, speaker{}), f)}

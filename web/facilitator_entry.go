@@ -194,6 +194,9 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 	var p *previewView
 	if ok {
 		p = newPreview(sc.q, fit, a.Percent, sc.speaker())
+		if w := unitSlip(sc.q, f, a, sc.speaker()); w != "" {
+			p.Warnings = append([]string{w}, p.Warnings...)
+		}
 	} else {
 		status = http.StatusUnprocessableEntity
 		p = &previewView{Problem: problemSummary(newAnswerForm(sc.q, nil, sc.speaker()), f)}
