@@ -110,7 +110,7 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 		if _, err := cdp.Call(ctx, t, network.SetCacheDisabled, network.SetCacheDisabledParams{CacheDisabled: true}); err != nil {
 			return err
 		}
-		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/static/live.js", RequestStage: fetch.RequestStageRequest}}})
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/static/live.js*", RequestStage: fetch.RequestStageRequest}}})
 		return err
 	}))
 	p.do("start loading "+address, chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {

@@ -449,7 +449,7 @@ func TestReportAndExports(t *testing.T) {
 		t.Fatalf("report: %d", res.StatusCode)
 	}
 	for _, want := range []string{"Caution.", "Invented data.", "Full revision history", "Decision log", "Invented rationale for the report.",
-		"p ~ beta(", "Linear opinion pool", es[0].Name, `href="/static/print.css" media="print"`, "<svg"} {
+		"p ~ beta(", "Linear opinion pool", es[0].Name, `href="` + staticURL("/static/print.css") + `" media="print"`, "<svg"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("report lacks %q", want)
 		}

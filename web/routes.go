@@ -2,7 +2,6 @@ package web
 
 import (
 	"embed"
-	"io/fs"
 	"net/http"
 
 	"github.com/go-chi/chi/v5"
@@ -31,11 +30,7 @@ func (s *Server) routes() http.Handler {
 			messagePage("Not allowed", "This address does not accept that kind of request. Changes are only made by the forms on Parley's pages."))
 	})
 
-	sub, err := fs.Sub(static, "static")
-	if err != nil {
-		panic(err) // the embed pattern above guarantees the directory
-	}
-	r.Handle("/static/*", http.StripPrefix("/static/", s.staticFiles(sub)))
+	r.Handle("/static/*", http.StripPrefix("/static/", http.HandlerFunc(s.serveAsset))) // static_assets.go
 
 	r.Get("/signin", s.signInForm)
 	r.Post("/signin", s.signIn)
@@ -54,18 +49,4 @@ func (s *Server) routes() http.Handler {
 		s.facilitatorRoutes(r)
 	})
 	return r
-}
-
-// staticFiles serves the embedded assets by name only: a folder, and so
-// /static/ itself, is not found rather than listed.
-func (s *Server) staticFiles(fsys fs.FS) http.Handler {
-	files := http.FileServerFS(fsys)
-	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
-		fi, err := fs.Stat(fsys, r.URL.Path)
-		if err != nil || fi.IsDir() {
-			s.notFound(w, r)
-			return
-		}
-		files.ServeHTTP(w, r)
-	})
 }
