@@ -11,6 +11,8 @@ import (
 // (measured: 95 kB for the first question, as much again for the next).
 // The assets now come gzipped and are kept: the first page costs under
 // 40 kB all told, and the next pages' assets come from the phone's cache.
+// Each preview, fetched at every pause in her typing, cost 23 kB of
+// picture and words; gzipped it costs under 8 kB.
 func TestExpertPagesAreLightOnASlowLink(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
@@ -48,5 +50,14 @@ func TestExpertPagesAreLightOnASlowLink(t *testing.T) {
 			t.Errorf("question %d fetched its assets again: %d bytes (%v); want them from the phone's cache", i+1, c.Assets, c.Names)
 		}
 		t.Logf("question %d: page %d bytes, assets %d bytes", i+1, c.Page, c.Assets)
+	}
+	// Each pause in her typing fetches the fit's picture and words.
+	typeValues(priya, "0.02", "0.05", "0.13")
+	previews := `performance.getEntriesByType("resource").filter(e => e.name.includes("/preview?fragment=1")).map(e => e.transferSize)`
+	priya.waitFor("the preview's fetch", previews+`.length > 0 && !document.querySelector("#preview[aria-busy]")`)
+	for _, n := range eval[[]int](priya, "what the previews cost", previews) {
+		if n > 8000 {
+			t.Errorf("a preview cost %d bytes; want under 8000 on a slow link", n)
+		}
 	}
 }
