@@ -1005,10 +1005,13 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 	}
 	s.live.publishEvent(sc.workshop.ID, liveEvent{Kind: "save", Question: sc.question.ID, At: rev.At})
 	// "Saved." is said once, on the page the save leads to: a reload does
-	// not say it again (confirm_once.go).
+	// not say it again (confirm_once.go). The page opens at it (#saved):
+	// opened at its top, a phone showed the question's wording, and
+	// "Saved." with the way to the next question lay under the screen's
+	// edge.
 	page := expertQuestionPath(r, sc.question.ID)
 	s.confirmOnce(w, r, page, doneSaved)
-	http.Redirect(w, r, page, http.StatusSeeOther)
+	http.Redirect(w, r, page+"#saved", http.StatusSeeOther)
 }
 
 func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status int, sc expertScope, v expertQuestionView) {

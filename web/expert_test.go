@@ -293,7 +293,7 @@ func TestExpertSaveCreatesARevision(t *testing.T) {
 	if resp.StatusCode != http.StatusSeeOther {
 		t.Fatalf("save: status %d, want 303", resp.StatusCode)
 	}
-	if loc := resp.Header.Get("Location"); loc != g.qpath(0, g.q) {
+	if loc := resp.Header.Get("Location"); loc != g.qpath(0, g.q)+"#saved" {
 		t.Errorf("redirect to %q", loc)
 	}
 	revs := g.revisions()
