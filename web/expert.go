@@ -1245,13 +1245,28 @@ func applyErrors(af *answerForm, f *Form) {
 func problemSummary(af answerForm, f *Form) string {
 	for _, fl := range af.Fields {
 		if msg := f.Error(fl.Name); msg != "" {
-			return "No fit yet. " + fl.Label + ": " + strings.TrimSuffix(msg, ".") + "."
+			label := fl.Label
+			if strings.HasSuffix(label, "?") {
+				// A label asked as a question is quoted: "…highest?: Type
+				// the confidence…" read as broken punctuation.
+				label = "“" + label + "”"
+			}
+			return "No fit yet. " + label + ": " + endSentence(msg)
 		}
 	}
 	if msg := f.Error(""); msg != "" {
-		return "No fit yet: " + strings.TrimSuffix(msg, ".") + "."
+		return "No fit yet: " + endSentence(msg)
 	}
 	return "No fit yet: check the marked fields."
+}
+
+// endSentence closes a message with one full stop, or with the question
+// mark it asks by ("did you mean 80%?", not "80%?.").
+func endSentence(msg string) string {
+	if strings.HasSuffix(msg, "?") {
+		return msg
+	}
+	return strings.TrimSuffix(msg, ".") + "."
 }
 
 // anonymousPanel draws into v, from round 2, the panel as it stood when
