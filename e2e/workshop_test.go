@@ -788,9 +788,11 @@ func livePreview(t *testing.T, ex *person, n int, before []point, shows string) 
 func saveAnswer(t *testing.T, ex *person) {
 	t.Helper()
 	// A value typed just before starts the live preview (preview.js, 350
-	// ms after typing stops), whose picture may change the page's height
-	// under the button as the click lands: once in CI the click met no
-	// button and no page loaded. The save waits for the preview to settle.
+	// ms after typing stops), whose picture changed the page's height
+	// under the button as the click landed: once in CI the click met no
+	// button and no page loaded. The preview now keeps the room it has
+	// taken (TestSaveStaysPutWhileThePreviewRedraws); the save still waits
+	// for it to settle, so that what is saved is what the preview showed.
 	time.Sleep(400 * time.Millisecond)
 	if err := ex.poll(stepTimeout, `!document.querySelector('[aria-busy="true"]')`); err != nil {
 		t.Fatalf("%s: the preview did not settle before the save: %v", ex.name, err)
