@@ -62,7 +62,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 // the agreed prior; a large panel gets the strip of intervals (picture).
 // scheme names the pool.
 func reportChart(q record.Question, experts map[int64]workshop.Expert, scheme workshop.WeightScheme) picture {
-	frame := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
+	frame := chart.PanelView{ID: "report-q" + strconv.FormatInt(q.ID, 10) + "-chart", Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	fits := map[int64]elicit.ScaledBeta{}
 	for _, cf := range q.CurrentFits {
 		if cf.Fit != nil {

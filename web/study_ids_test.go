@@ -1,0 +1,71 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"regexp"
+	"sort"
+	"strings"
+	"testing"
+)
+
+// repeatedIDs lists the ids a page gives more than one element.
+func repeatedIDs(body string) []string {
+	seen := map[string]int{}
+	for _, m := range regexp.MustCompile(`\sid="([^"]*)"`).FindAllStringSubmatch(body, -1) {
+		seen[m[1]]++
+	}
+	var twice []string
+	for id, n := range seen {
+		if n > 1 {
+			twice = append(twice, id)
+		}
+	}
+	sort.Strings(twice)
+	return twice
+}
+
+// An id is one a page. The study page's data form and planning form both
+// have a field named trials, and both took the id f-trials: the label
+// "Planned number of trials" named the data form's field (a tap on it
+// put the cursor in the data form), and the planned trials had no label.
+// The assurance's heading and its picture were both "assurance", and the
+// report's question and its picture both "report-qN".
+func TestStudyAndReportGiveEachIDOnce(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"3"}, "trials": {"120"},
+		"source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	plan := sp + "?trials=200&direction=below&threshold=0.08&confidence=0.95&length=0.04"
+	for _, page := range []string{sp, plan, workshopPath(ws.ID) + "/report"} {
+		res, body := h.get(page)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", page, res.StatusCode)
+		}
+		if twice := repeatedIDs(body); len(twice) > 0 {
+			t.Errorf("%s gives these ids to more than one element: %q", page, twice)
+		}
+	}
+	// The planned trials' label names the planning form's field.
+	_, body := h.get(plan)
+	_, form, ok := strings.Cut(body, `<form method="get" action="`+sp+`#plan"`)
+	if !ok {
+		t.Fatal("the study page has no planning form")
+	}
+	form, _, _ = strings.Cut(form, "</form>")
+	m := regexp.MustCompile(`<label for="([^"]+)">Planned number of trials</label>`).FindStringSubmatch(form)
+	if m == nil {
+		t.Fatal("the planning form has no label for the planned trials")
+	}
+	if !strings.Contains(form, `id="`+m[1]+`" name="trials" value="200"`) {
+		t.Errorf("the label of the planned trials names %q, which is not the planning form's trials field", m[1])
+	}
+	// A refused number of trials is said beside the planning form's field.
+	_, body = h.get(sp + "?trials=0")
+	if !regexp.MustCompile(`id="f-plan-trials" name="trials" value="0"\s+aria-invalid="true" aria-describedby="err-trials"`).MatchString(body) ||
+		strings.Count(body, `id="err-trials"`) != 1 {
+		t.Error("a refused number of trials is not tied to the planning form's field")
+	}
+}
