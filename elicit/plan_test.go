@@ -503,7 +503,7 @@ func TestWorth(t *testing.T) {
 // 12 successes in 160 trials under Beta(2, 38) give Beta(14, 186), under
 // the uniform Beta(13, 149).
 func TestSensitivity(t *testing.T) {
-	priors := []NamedPrior{{"agreed", Beta{2, 38}}, {"uniform", Uniform()}}
+	priors := []NamedPrior{{Name: "agreed", Prior: Beta{2, 38}}, {Name: "uniform", Prior: Uniform()}}
 	rows, err := Sensitivity(priors, 12, 160, 0.9)
 	if err != nil {
 		t.Fatal(err)
@@ -522,7 +522,7 @@ func TestSensitivity(t *testing.T) {
 	}
 	_, err = Sensitivity(nil, 1, 2, 0.9)
 	checkRule(t, err, "priors", RuleCount)
-	_, err = Sensitivity([]NamedPrior{{"a", Beta{2, 3}}, {"b", Beta{-1, 3}}}, 1, 2, 0.9)
+	_, err = Sensitivity([]NamedPrior{{Name: "a", Prior: Beta{2, 3}}, {Name: "b", Prior: Beta{-1, 3}}}, 1, 2, 0.9)
 	checkRule(t, err, "priors[1].alpha", RulePositive)
 	_, err = Sensitivity(priors, 5, 2, 0.9)
 	checkRule(t, err, "successes", RuleCountRange)

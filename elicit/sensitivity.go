@@ -7,9 +7,13 @@ import (
 
 // NamedPrior is one prior in a sensitivity comparison: an expert's own
 // fit, a pool, the agreed prior, or any other, under a name for people.
+// Key is the caller's own name for it, one that stays the same when
+// other priors join or leave the comparison (a form's choice of prior);
+// Sensitivity does not read it.
 type NamedPrior struct {
 	Name  string `json:"name"`
 	Prior Beta   `json:"prior"`
+	Key   string `json:"key,omitempty"`
 }
 
 // SensitivityRow is the posterior under one prior for the same data.

@@ -234,7 +234,12 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 		experts[e.Name] = true
 	}
 	for i, p := range priors {
-		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: strconv.Itoa(i), Label: p.Name, InSentence: priorInSentence(p.Name, experts[p.Name]),
+		// A choice is named by its prior's key, not its place in the
+		// list: the plan's address keeps it, and by place a plan of the
+		// agreed prior kept (a bookmark, a link sent to a colleague, the
+		// browser's history) became a plan of another prior once one
+		// more expert had answered.
+		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: p.Key, Label: p.Name, InSentence: priorInSentence(p.Name, experts[p.Name]),
 			Prior: p.Prior, Caveat: caveats[i]})
 		if caveats[i] != "" {
 			v.Caveats = append(v.Caveats, caveats[i])

@@ -5,6 +5,7 @@ import (
 	"net/url"
 	"regexp"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -67,5 +68,46 @@ func TestStudyAndReportGiveEachIDOnce(t *testing.T) {
 	if !regexp.MustCompile(`id="f-plan-trials" name="trials" value="0"\s+aria-invalid="true" aria-describedby="err-trials"`).MatchString(body) ||
 		strings.Count(body, `id="err-trials"`) != 1 {
 		t.Error("a refused number of trials is not tied to the planning form's field")
+	}
+}
+
+// A plan's address names the prior it is planned under by a key that
+// stays when the list of priors changes. The choices were numbered by
+// their place in the list, so the address of a plan under the agreed
+// prior (a bookmark, a link sent to a colleague) planned under the
+// performance-weight pool once one more expert had answered.
+func TestPlanAddressKeepsItsPriorWhenAnExpertAnswers(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	_, body := h.get(sp)
+	opt := regexp.MustCompile(`<option value="([^"]+)"[^>]*>Agreed prior: `).FindStringSubmatch(body)
+	if opt == nil {
+		t.Fatal("no agreed prior to plan under")
+	}
+	plan := sp + "?prior=" + url.QueryEscape(opt[1]) + "&trials=100"
+	if _, body := h.get(plan); !strings.Contains(body, "<h3>Planned under: Agreed prior, ") {
+		t.Fatal("the plan is not under the agreed prior")
+	}
+	// Priya Raman, who had not answered the first question, answers it.
+	var priya string
+	for _, l := range links {
+		if l.Name == "Priya Raman" {
+			priya = l.Path
+		}
+	}
+	if priya == "" {
+		t.Fatal("the demo has no Priya Raman")
+	}
+	answer := url.Values{"values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.1"}, "reason": {"Invented: the supplier audit."}}
+	if res, body := h.post(priya+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", answer); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("Priya's answer: %d %s", res.StatusCode, body)
+	}
+	if _, body := h.get(sp); !strings.Contains(body, ">Priya Raman: Beta(") {
+		t.Fatal("Priya's fit is not among the priors")
+	}
+	res, body := h.get(plan)
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "<h3>Planned under: Agreed prior, ") {
+		i := strings.Index(body, "<h3>Planned under:")
+		t.Errorf("the same address plans under another prior: %d %.80s", res.StatusCode, body[max(i, 0):])
 	}
 }

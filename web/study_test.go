@@ -820,12 +820,12 @@ func TestStudyTypicalOutcomeNamesItsPriorInASentence(t *testing.T) {
 		t.Error("the typical outcome's sentence does not name the agreed prior in lower case")
 	}
 	// The first choice is the first expert's fit, labelled with their name.
-	opt := regexp.MustCompile(`<option value="0"[^>]*>([^<:]+):`).FindStringSubmatch(body)
+	opt := regexp.MustCompile(`<option value="(expert-\d+)"[^>]*>([^<:]+):`).FindStringSubmatch(body)
 	if opt == nil {
 		t.Fatal("no first choice of prior")
 	}
-	name := html.UnescapeString(opt[1])
-	_, body = h.get(sp + "?prior=0&trials=100")
+	name := html.UnescapeString(opt[2])
+	_, body = h.get(sp + "?prior=" + opt[1] + "&trials=100")
 	if want := "the median of the predictive under " + name + "'s fit, the prior the study is planned under."; !strings.Contains(html.UnescapeString(body), want) {
 		t.Errorf("the typical outcome's sentence under an expert's fit lacks %q", want)
 	}
@@ -948,7 +948,7 @@ func TestStudyPlanLevelNeedsALength(t *testing.T) {
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, `name="level" value=""`) {
 		t.Errorf("fresh page: %d; the level field is not empty", res.StatusCode)
 	}
-	if res, body := h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim="); res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
+	if res, body := h.get(sp + "?prior=expert-1&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim="); res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
 		t.Errorf("the served form without a sample size: %d", res.StatusCode)
 	}
 	// A length alone: the level 0.95, as `parley plan --length` takes it.
@@ -970,7 +970,7 @@ func TestStudyPredictivePictureCoversTheTable(t *testing.T) {
 	rowRe := regexp.MustCompile(`<tr><td>(\d+)</td>`)
 	drawnRe := regexp.MustCompile(`Outcomes from (\d+) to (\d+) are drawn`)
 	barRe := regexp.MustCompile(`<rect class="bar[ "]`)
-	for _, query := range []string{"trials=200", "trials=100", "trials=20", "prior=0&trials=200", "prior=2&trials=60"} {
+	for _, query := range []string{"trials=200", "trials=100", "trials=20", "prior=expert-1&trials=200", "prior=expert-4&trials=60"} {
 		res, body := h.get(sp + "?" + query)
 		if res.StatusCode != http.StatusOK {
 			t.Fatalf("%s: %d", query, res.StatusCode)
@@ -1011,7 +1011,7 @@ func TestStudyPredictivePictureCoversTheTable(t *testing.T) {
 func TestStudyPlanLevelStaysAsTyped(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	sp := studyPath(ws.ID, qs[0].ID)
-	res, body := h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=0.06&level=&criterion=alc&interval=equal&woc_trim=")
+	res, body := h.get(sp + "?prior=expert-1&trials=60&direction=below&threshold=&confidence=&length=0.06&level=&criterion=alc&interval=equal&woc_trim=")
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, "95% intervals are on average at most 0.06 wide") {
 		t.Fatalf("a length alone: %d, the goal at 95%% in words: %v", res.StatusCode, strings.Contains(body, "95% intervals are on average at most 0.06 wide"))
 	}
@@ -1019,7 +1019,7 @@ func TestStudyPlanLevelStaysAsTyped(t *testing.T) {
 		t.Errorf("the form served back after a length alone does not keep the level empty")
 	}
 	// The same form with its length cleared plans without a sample size.
-	res, body = h.get(sp + "?prior=0&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim=")
+	res, body = h.get(sp + "?prior=expert-1&trials=60&direction=below&threshold=&confidence=&length=&level=&criterion=alc&interval=equal&woc_trim=")
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, "What the study may see") {
 		t.Errorf("the length cleared: %d", res.StatusCode)
 	}

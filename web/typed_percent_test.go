@@ -13,7 +13,7 @@ import (
 // 100%", a posterior probability no data reach, and "100% intervals".
 func TestTypedLevelsReadAsTyped(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
-	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?prior=0&trials=50&threshold=0.1&direction=below&confidence=0.9999&length=0.3&level=0.9999")
+	_, body := h.get(studyPath(ws.ID, qs[0].ID) + "?prior=expert-1&trials=50&threshold=0.1&direction=below&confidence=0.9999&length=0.3&level=0.9999")
 	for _, want := range []string{"is below 0.1 is at least 99.99%", "equal-tailed 99.99% intervals"} {
 		if !strings.Contains(body, want) {
 			t.Errorf("study page lacks %q", want)

@@ -117,31 +117,35 @@ func (q Question) IsProportion() bool {
 // caveats runs beside priors: for a pool whose single Beta is far from
 // the pool (elicit.Representation.Far), words saying that the Beta stands
 // in for the pool only roughly (StandInCaveat); "" for every other prior.
+//
+// Each prior's Key stays the same as experts answer, revise or leave and
+// weights change (a plan's address names its prior by it): "expert-ID",
+// "pool-equal", "pool-custom", "pool-performance" and "agreed".
 func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors []elicit.NamedPrior, skipped, caveats []string) {
 	inForce := in.Weights
 	in.Weights = Weights{WorkshopID: in.Question.WorkshopID, Scheme: WeightsEqual}
 	equal := PanelState(in)
 	for _, m := range equal.Members {
 		if m.Pooled && m.Fit != nil {
-			priors = append(priors, elicit.NamedPrior{Name: m.Expert.Name, Prior: m.Fit.Dist.Beta})
+			priors = append(priors, elicit.NamedPrior{Name: m.Expert.Name, Prior: m.Fit.Dist.Beta, Key: "expert-" + strconv.FormatInt(m.Expert.ID, 10)})
 			caveats = append(caveats, "")
 		}
 	}
-	pool := func(name string, p Panel) {
+	pool := func(name, key string, p Panel) {
 		switch {
 		case p.PoolErr != nil:
 			skipped = append(skipped, fmt.Sprintf("%s: %v", name, p.PoolErr))
 		case p.Single == nil:
 			skipped = append(skipped, fmt.Sprintf("%s: no single Beta: %v", name, p.SingleErr))
 		default:
-			priors = append(priors, elicit.NamedPrior{Name: name, Prior: p.Single.Dist.Beta})
+			priors = append(priors, elicit.NamedPrior{Name: name, Prior: p.Single.Dist.Beta, Key: key})
 			caveats = append(caveats, StandInCaveat(name, *p.Single))
 		}
 	}
-	pool(WeightsEqual.PoolName(), equal)
+	pool(WeightsEqual.PoolName(), "pool-equal", equal)
 	if inForce.Scheme == WeightsCustom {
 		in.Weights = inForce
-		pool(WeightsCustom.PoolName()+" (in force)", PanelState(in))
+		pool(WeightsCustom.PoolName()+" (in force)", "pool-custom", PanelState(in))
 	}
 	if perf != nil {
 		name := WeightsPerformance.PoolName()
@@ -149,10 +153,10 @@ func ComparedPriors(in PanelInput, perf *Weights, agreed *AgreedPrior) (priors [
 			name += " (suggested)"
 		}
 		in.Weights = *perf
-		pool(name, PanelState(in))
+		pool(name, "pool-performance", PanelState(in))
 	}
 	if agreed != nil {
-		priors = append(priors, elicit.NamedPrior{Name: "Agreed prior", Prior: agreed.Dist.Beta})
+		priors = append(priors, elicit.NamedPrior{Name: "Agreed prior", Prior: agreed.Dist.Beta, Key: "agreed"})
 		caveats = append(caveats, "")
 	}
 	return priors, skipped, caveats

@@ -27,11 +27,11 @@ func TestComparedPriors(t *testing.T) {
 	in.Weights = perf
 	byPerf := PanelState(in)
 	want := []elicit.NamedPrior{
-		{Name: "A", Prior: mustFit(t, in.Question, 0.1, 0.25, 0.45).Beta},
-		{Name: "B", Prior: mustFit(t, in.Question, 0.02, 0.08, 0.2).Beta},
-		{Name: "Equal-weight pool", Prior: equal.Single.Dist.Beta},
-		{Name: "Performance-weight pool", Prior: byPerf.Single.Dist.Beta},
-		{Name: "Agreed prior", Prior: elicit.Beta{Alpha: 3, Beta: 12}},
+		{Name: "A", Prior: mustFit(t, in.Question, 0.1, 0.25, 0.45).Beta, Key: "expert-1"},
+		{Name: "B", Prior: mustFit(t, in.Question, 0.02, 0.08, 0.2).Beta, Key: "expert-2"},
+		{Name: "Equal-weight pool", Prior: equal.Single.Dist.Beta, Key: "pool-equal"},
+		{Name: "Performance-weight pool", Prior: byPerf.Single.Dist.Beta, Key: "pool-performance"},
+		{Name: "Agreed prior", Prior: elicit.Beta{Alpha: 3, Beta: 12}, Key: "agreed"},
 	}
 	if len(skipped) != 0 || len(got) != len(want) {
 		t.Fatalf("got %+v, skipped %v", got, skipped)
@@ -58,9 +58,12 @@ func TestComparedPriors(t *testing.T) {
 	custom.Weights = Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 0.2, 2: 0.8}}
 	got, _, _ = ComparedPriors(custom, &perf, nil)
 	byCustom := PanelState(custom)
-	names := map[string]elicit.Beta{}
+	names, keys := map[string]elicit.Beta{}, map[string]string{}
 	for _, p := range got {
-		names[p.Name] = p.Prior
+		names[p.Name], keys[p.Name] = p.Prior, p.Key
+	}
+	if keys["Custom-weight pool (in force)"] != "pool-custom" || keys["Performance-weight pool (suggested)"] != "pool-performance" {
+		t.Errorf("keys of the pools: %v", keys)
 	}
 	if b, ok := names["Custom-weight pool (in force)"]; !ok || b != byCustom.Single.Dist.Beta {
 		t.Errorf("custom weights in force: %+v", got)
