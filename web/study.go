@@ -266,13 +266,26 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 				// from the recorded data and the follow-up together.
 				s, n = s+v.Update.Successes, n+v.Update.Trials
 			}
-			v.Planned, v.PlannedOmitted = compareWhy(priors, s, n, "planned")
+			v.Planned, v.PlannedOmitted = compareWhy(withReference(priors), s, n, "planned")
 		}
 	}
 	if v.Update != nil {
-		v.Observed, v.ObservedOmitted = compareWhy(priors, v.Update.Successes, v.Update.Trials, "observed")
+		v.Observed, v.ObservedOmitted = compareWhy(withReference(priors), v.Update.Successes, v.Update.Trials, "observed")
 	}
 	return v
+}
+
+// referenceName names the uniform prior in the comparison of priors.
+const referenceName = "Uniform, for reference (no judgement)"
+
+// withReference is the priors compared with, last, the uniform Beta(1, 1):
+// the posterior the data alone give, which carries no one's judgement.
+// Beside it a lead sees how far the panel's judgement moves the
+// conclusion, the first question of a review of an elicited prior. It is
+// a row of the comparison, not a prior to plan a study under.
+func withReference(priors []elicit.NamedPrior) []elicit.NamedPrior {
+	out := append([]elicit.NamedPrior(nil), priors...)
+	return append(out, elicit.NamedPrior{Name: referenceName, Prior: elicit.Uniform(), Key: "uniform"})
 }
 
 // performanceWeights are the performance weights to compare under: those

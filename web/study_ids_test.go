@@ -1,8 +1,10 @@
 package web
 
 import (
+	"math"
 	"net/http"
 	"net/url"
+	"os"
 	"regexp"
 	"sort"
 	"strconv"
@@ -109,5 +111,63 @@ func TestPlanAddressKeepsItsPriorWhenAnExpertAnswers(t *testing.T) {
 	if res.StatusCode != http.StatusOK || !strings.Contains(body, "<h3>Planned under: Agreed prior, ") {
 		i := strings.Index(body, "<h3>Planned under:")
 		t.Errorf("the same address plans under another prior: %d %.80s", res.StatusCode, body[max(i, 0):])
+	}
+}
+
+// The comparison of priors ends with the uniform Beta(1, 1), the posterior
+// the data give alone: beside it the lead sees how far the panel's
+// judgement moves the conclusion. Its numbers are R's
+// (testdata/r/uniform_reference.R, R 4.2.2: qbeta and the shortest
+// interval by optimize), for data recorded as one batch.
+func TestStudyComparesWithTheUniformPrior(t *testing.T) {
+	raw, err := os.ReadFile("../testdata/r/uniform_reference.csv")
+	if err != nil {
+		t.Fatal(err)
+	}
+	lines := strings.Split(strings.TrimSpace(string(raw)), "\n")
+	if !strings.HasPrefix(lines[0], "# R version") || len(lines) < 3 {
+		t.Fatalf("uniform_reference.csv does not name the R that made it: %q", lines[0])
+	}
+	number := regexp.MustCompile(`[0-9][0-9.e+-]*`)
+	near := func(shown string, want float64) bool {
+		got, err := strconv.ParseFloat(shown, 64)
+		return err == nil && (got == want || math.Abs(got-want) <= 5e-4*math.Abs(want))
+	}
+	for _, line := range lines[2:] {
+		f := strings.Split(line, ",")
+		want := make([]float64, len(f))
+		for i, s := range f {
+			want[i], _ = strconv.ParseFloat(s, 64)
+		}
+		h, ws, qs, _, _ := seeded(t)
+		sp := studyPath(ws.ID, qs[0].ID)
+		if res, body := h.post(sp+"/data", url.Values{"successes": {f[0]}, "trials": {f[1]},
+			"source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("record %s in %s: %d %s", f[0], f[1], res.StatusCode, body)
+		}
+		_, body := h.get(sp)
+		_, observed, ok := strings.Cut(body, "<h3>For the recorded data</h3>")
+		if !ok {
+			t.Fatal("no comparison for the recorded data")
+		}
+		observed, _, _ = strings.Cut(observed, "</table>")
+		_, row, ok := strings.Cut(observed, `<th scope="row">`+htmlEscape(referenceName)+`</th>`)
+		if !ok {
+			t.Fatalf("%s in %s: the comparison has no row for the uniform prior", f[0], f[1])
+		}
+		row, _, _ = strings.Cut(row, "</tr>")
+		cells := regexp.MustCompile(`<td[^>]*>([^<]*)</td>`).FindAllStringSubmatch(row, -1)
+		if len(cells) != 6 || cells[0][1] != "Beta(1, 1)" || cells[1][1] != "Beta("+f[2]+", "+f[3]+")" {
+			t.Fatalf("%s in %s: the uniform prior's row reads %q", f[0], f[1], cells)
+		}
+		eq, hd := number.FindAllString(cells[3][1], -1), number.FindAllString(cells[4][1], -1)
+		if !near(cells[2][1], want[4]) || len(eq) != 2 || !near(eq[0], want[5]) || !near(eq[1], want[6]) ||
+			len(hd) != 2 || !near(hd[0], want[7]) || !near(hd[1], want[8]) {
+			t.Errorf("%s in %s: the uniform prior's posterior reads mean %s, %s, %s; R gives %v", f[0], f[1], cells[2][1], cells[3][1], cells[4][1], want[4:])
+		}
+		// It is a row of the comparison, not a prior to plan under.
+		if strings.Contains(body, `<option value="uniform"`) {
+			t.Error("the uniform prior is offered to plan under")
+		}
 	}
 }
