@@ -430,7 +430,7 @@ func FitOf(f elicit.Fit) *Fit {
 }
 
 // ForQuestion narrows the record to one question: its revisions, its
-// events and the workshop-wide events. The panel and weights stay whole,
+// events, its study data and the workshop-wide events. The panel and weights stay whole,
 // and so does the evidence behind any performance weights (the
 // calibration questions their bases scored or left out with their
 // events, the revisions they scored, and the revision each such
@@ -438,7 +438,7 @@ func FitOf(f elicit.Fit) *Fit {
 // question's pools and reads back.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
-	out.Questions, out.Revisions, out.Events = nil, nil, nil
+	out.Questions, out.Revisions, out.Events, out.StudyData = nil, nil, nil, []workshop.StudyData{}
 	// The narrowed record leaves facts out, so it cannot carry the
 	// workshop's chain.
 	out.Fingerprint, out.Chain = "", nil
@@ -476,6 +476,14 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 	for _, rv := range r.Revisions {
 		if rv.QuestionID == id || keepR[rv.ID] {
 			out.Revisions = append(out.Revisions, rv)
+		}
+	}
+	// The data recorded against the kept questions: another question's
+	// data named a question the narrowed record lacks, and it did not
+	// read back.
+	for _, d := range r.StudyData {
+		if keepQ[d.QuestionID] {
+			out.StudyData = append(out.StudyData, d)
 		}
 	}
 	for _, e := range r.Events {

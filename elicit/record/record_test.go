@@ -293,6 +293,23 @@ func TestForQuestion(t *testing.T) {
 	if _, err := r.ForQuestion(99); !errors.Is(err, workshop.ErrNotFound) {
 		t.Fatalf("missing question: %v", err)
 	}
+	// The study data go with their question: question 11's two batches
+	// stayed in question 12's record, where no question 11 is, and
+	// `parley import` refused it (study_data[0].question_id: no question
+	// 11 in the record).
+	if one.StudyData == nil || len(one.StudyData) != 0 {
+		t.Errorf("question 12's record carries another question's data (or null): %+v", one.StudyData)
+	}
+	if err := one.Validate(); err != nil {
+		t.Errorf("question 12's record does not read back: %v", err)
+	}
+	eleven, err := r.ForQuestion(11)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if len(eleven.StudyData) != 2 || eleven.Validate() != nil {
+		t.Errorf("question 11's record: %d batches of data, %v", len(eleven.StudyData), eleven.Validate())
+	}
 }
 
 func TestValidateRecord(t *testing.T) {
