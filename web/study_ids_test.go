@@ -171,3 +171,24 @@ func TestStudyComparesWithTheUniformPrior(t *testing.T) {
 		}
 	}
 }
+
+// The day data were observed, 2026-03-31, can be typed on a phone: its
+// field asked for the decimal keypad (inputmode="decimal"), which on an
+// iPhone has the digits and a decimal point and no hyphen. The counts
+// keep the keypad.
+func TestObservedDayTakesAHyphenOnAPhone(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	_, body := h.get(studyPath(ws.ID, qs[0].ID))
+	field := regexp.MustCompile(`<input[^>]*name="observed_on"[^>]*>`).FindString(body)
+	if field == "" {
+		t.Fatal("the data form has no field for the day observed")
+	}
+	if m := regexp.MustCompile(`inputmode="(\w+)"`).FindStringSubmatch(field); m != nil {
+		t.Errorf("the day observed asks for the %s keypad, which has no hyphen on an iPhone: %s", m[1], field)
+	}
+	for _, name := range []string{"successes", "trials"} {
+		if !regexp.MustCompile(`<input type="text" inputmode="decimal"[^>]*name="` + name + `"`).MatchString(body) {
+			t.Errorf("the %s lost the decimal keypad", name)
+		}
+	}
+}
