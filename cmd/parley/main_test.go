@@ -6,6 +6,7 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
+	"reflect"
 	"regexp"
 	"strings"
 	"testing"
@@ -160,6 +161,29 @@ func TestHelpSummaryNamesEveryFlag(t *testing.T) {
 		for _, f := range flagLine.FindAllStringSubmatch(out.String(), -1) {
 			if !regexp.MustCompile("--" + regexp.QuoteMeta(f[1]) + `\b`).MatchString(c.summary) {
 				t.Errorf("parley help's line for %s does not name --%s: %q", name, f[1], c.summary)
+			}
+		}
+	}
+}
+
+// TestHelpSaysWhatTheCommandDoes: `parley COMMAND -h` starts with the
+// command's line of `parley help` before its flags. `parley pool -h`
+// listed --format alone, without a word of the JSON it reads on standard
+// input; and that line names every key the JSON takes (it left out lower
+// and upper).
+func TestHelpSaysWhatTheCommandDoes(t *testing.T) {
+	for name, c := range commands {
+		var out, errb bytes.Buffer
+		dispatch([]string{name, "-h"}, strings.NewReader(""), &out, &errb)
+		if first, _, _ := strings.Cut(out.String(), "\n"); first != "parley "+name+": "+c.summary {
+			t.Errorf("%s -h starts %q, not with what the command does", name, first)
+		}
+	}
+	for _, typ := range []reflect.Type{reflect.TypeFor[poolInput](), reflect.TypeFor[poolExpert]()} {
+		for i := range typ.NumField() {
+			key, _, _ := strings.Cut(typ.Field(i).Tag.Get("json"), ",")
+			if !strings.Contains(commands["pool"].summary, `"`+key+`"`) {
+				t.Errorf("parley pool's line does not name the key %q it reads: %s", key, commands["pool"].summary)
 			}
 		}
 	}

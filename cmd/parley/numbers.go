@@ -31,12 +31,19 @@ const cautionJSON = "An elicited prior is documented judgement, not data. Review
 var priorCaution = "Caution: a" + cautionJSON[1:]
 
 // parseArgs parses the flags of a scripting command. Flag errors become
-// one line on stderr and exit status 2; -h prints the flags to stdout.
+// one line on stderr and exit status 2; -h prints the command's line of
+// `parley help` and its flags to stdout.
 // It returns ok false with the exit status when the command must stop.
 func parseArgs(fs *flag.FlagSet, args []string, stdout, stderr io.Writer) (code int, ok bool) {
 	fs.SetOutput(io.Discard)
 	err := fs.Parse(args)
 	if errors.Is(err, flag.ErrHelp) {
+		// What the command does first, as `parley help` says it: the
+		// flags alone left `parley pool -h` a lone --format, without a
+		// word of the JSON it reads on standard input.
+		if c, ok := commands[strings.TrimPrefix(fs.Name(), "parley ")]; ok {
+			fmt.Fprintf(stdout, "%s: %s\n", fs.Name(), c.summary)
+		}
 		fs.SetOutput(stdout)
 		fs.PrintDefaults()
 		return exitOK, false

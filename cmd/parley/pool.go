@@ -14,7 +14,7 @@ import (
 )
 
 func init() {
-	command("pool", `combine experts' Betas read as JSON on stdin ({"experts":[{"alpha","beta","weight"}],"probs","method":"linear"|"log"}; --format)`, runPool)
+	command("pool", `combine experts' Betas read as JSON on stdin ({"experts":[{"alpha","beta","weight"}],"probs","method":"linear"|"log","lower","upper"}; --format)`, runPool)
 }
 
 // Rules of the JSON read by `parley pool`, beside elicit's own.
