@@ -1,6 +1,8 @@
 package web
 
 import (
+	"context"
+	"html"
 	"math"
 	"net/http"
 	"net/url"
@@ -10,6 +12,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // repeatedIDs lists the ids a page gives more than one element.
@@ -190,5 +194,37 @@ func TestObservedDayTakesAHyphenOnAPhone(t *testing.T) {
 		if !regexp.MustCompile(`<input type="text" inputmode="decimal"[^>]*name="` + name + `"`).MatchString(body) {
 			t.Errorf("the %s lost the decimal keypad", name)
 		}
+	}
+}
+
+// The words above the comparison name the priors its rows are: they
+// named the pools under equal and performance weights whatever the rows
+// were, so the pool under custom weights in force, a row of its own,
+// went unnamed.
+func TestComparisonSaysWhichPriorsItUpdates(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	hint := func() string {
+		_, body := h.get(sp + "?trials=100")
+		_, after, _ := strings.Cut(body, `<section id="compare" class="card">`)
+		_, after, _ = strings.Cut(after, `<p class="hint">`)
+		words, _, _ := strings.Cut(after, "</p>")
+		return strings.Join(strings.Fields(html.UnescapeString(words)), " ")
+	}
+	want := "The same data update each expert's own fit, the equal-weight pool, the performance-weight pool (suggested) and the agreed prior; each pool enters by its single Beta."
+	if got := hint(); !strings.HasPrefix(got, want) {
+		t.Errorf("the comparison under equal weights says %q, want %q", got, want)
+	}
+	if err := h.db.SetWeights(context.Background(), &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsCustom, Reason: "Invented: audits.",
+		ByExpert: map[int64]float64{es[0].ID: 3, es[1].ID: 1, es[2].ID: 1, es[3].ID: 1}}); err != nil {
+		t.Fatal(err)
+	}
+	_, body := h.get(sp + "?trials=100")
+	if !strings.Contains(body, `<th scope="row">Custom-weight pool (in force)</th>`) {
+		t.Fatal("no row for the pool under the custom weights in force")
+	}
+	want = "The same data update each expert's own fit, the equal-weight pool, the custom-weight pool (in force), the performance-weight pool (suggested) and the agreed prior; each pool enters by its single Beta."
+	if got := hint(); !strings.HasPrefix(got, want) {
+		t.Errorf("the comparison under custom weights says %q, want %q", got, want)
 	}
 }
