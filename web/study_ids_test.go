@@ -215,6 +215,10 @@ func TestComparisonSaysWhichPriorsItUpdates(t *testing.T) {
 	if got := hint(); !strings.HasPrefix(got, want) {
 		t.Errorf("the comparison under equal weights says %q, want %q", got, want)
 	}
+	// The table's last column, "Data's weight", is said in words.
+	if got := hint(); !strings.Contains(got, "The data's weight is their share of the posterior mean, n / (α + β + n)") {
+		t.Errorf("the comparison does not say what the data's weight is: %q", got)
+	}
 	if err := h.db.SetWeights(context.Background(), &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsCustom, Reason: "Invented: audits.",
 		ByExpert: map[int64]float64{es[0].ID: 3, es[1].ID: 1, es[2].ID: 1, es[3].ID: 1}}); err != nil {
 		t.Fatal(err)
