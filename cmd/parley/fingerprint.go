@@ -60,6 +60,12 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	if rec.Workshop.ID <= 0 || rec.Workshop.Created.IsZero() {
 		return fail(stderr, "fingerprint", badInput("in", "the file is not a workshop's record: it has no workshop.id and workshop.created"))
 	}
+	// A record narrowed to one question leaves the workshop's other
+	// facts out: its values are no fingerprint of the workshop, and a
+	// value noted in the room was said to show the record changed.
+	if q := rec.OneQuestion; q != 0 {
+		return fail(stderr, "fingerprint", badInput("in", "the file holds question id %d alone (a question's export, parley export --question): it leaves the workshop's other facts out, so its fingerprints are not the workshop's; export the whole record (without --question) and check that", q))
+	}
 	c := fingerprint.Of(rec.Facts())
 	// The record's own chain, if it carries one, against its facts.
 	var own error

@@ -484,3 +484,46 @@ func TestFingerprintDecisionWithoutItsLogEntry(t *testing.T) {
 		}
 	}
 }
+
+// A record narrowed to one question (export --question) leaves the
+// workshop's other facts out. fingerprint listed values of its own for
+// it, and a value noted when round 1 closed was "not a fingerprint of
+// this record at any point: either the record was changed after the
+// value was noted, or ...": a question's file handed to a reviewer read
+// as tampered with. It is refused, naming the whole record to check.
+func TestFingerprintRefusesARecordOfOneQuestion(t *testing.T) {
+	path, wid := closedRoundWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	whole := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--out", whole); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	noted, _ := roundOneValue(t, whole)
+	b, err := os.ReadFile(whole)
+	check(t, err)
+	rec, err := record.Parse(strings.NewReader(string(b)))
+	check(t, err)
+	qid := strconv.FormatInt(rec.Questions[0].ID, 10)
+	one := filepath.Join(t.TempDir(), "one.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", ws, "--question", qid, "--out", one); code != exitOK {
+		t.Fatalf("export --question: %s", errs)
+	}
+	for _, args := range [][]string{{"fingerprint", "--in", one}, {"fingerprint", "--in", one, "--check", noted}} {
+		code, out, errs := run(args...)
+		if code != exitBadInput || out != "" || !strings.Contains(errs, "--in: the file holds question id "+qid+" alone") ||
+			!strings.Contains(errs, "without --question") || strings.Contains(errs, "changed") {
+			t.Errorf("%q: exit %d, %q %q", args, code, out, errs)
+		}
+	}
+	// The narrowed record says so, and still imports.
+	b, err = os.ReadFile(one)
+	check(t, err)
+	narrowed, err := record.Parse(strings.NewReader(string(b)))
+	check(t, err)
+	if strconv.FormatInt(narrowed.OneQuestion, 10) != qid {
+		t.Errorf("the narrowed record's one_question is %d, want %s", narrowed.OneQuestion, qid)
+	}
+	if code, _, errs := run("import", "--db", filepath.Join(t.TempDir(), "other.db"), "--in", one); code != exitOK {
+		t.Errorf("import of the narrowed record: exit %d, %s", code, errs)
+	}
+}

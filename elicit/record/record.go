@@ -64,6 +64,11 @@ type Record struct {
 	// one question, which leaves facts out.
 	Fingerprint string `json:"fingerprint,omitempty"`
 	Chain       *Chain `json:"chain,omitempty"`
+	// OneQuestion is the question a record narrowed to one question
+	// (ForQuestion) was narrowed to; 0 in a whole record. Such a record
+	// leaves facts out, so the fingerprints worked from it are not the
+	// workshop's.
+	OneQuestion int64 `json:"one_question,omitempty"`
 }
 
 // Question is a question with its current state: each expert's
@@ -440,8 +445,8 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events, out.StudyData = nil, nil, nil, []workshop.StudyData{}
 	// The narrowed record leaves facts out, so it cannot carry the
-	// workshop's chain.
-	out.Fingerprint, out.Chain = "", nil
+	// workshop's chain, and says what it was narrowed to.
+	out.Fingerprint, out.Chain, out.OneQuestion = "", nil, id
 	keepQ, keepR := map[int64]bool{id: true}, map[int64]bool{}
 	found := false
 	for _, q := range r.Questions {

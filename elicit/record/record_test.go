@@ -297,6 +297,9 @@ func TestForQuestion(t *testing.T) {
 	// stayed in question 12's record, where no question 11 is, and
 	// `parley import` refused it (study_data[0].question_id: no question
 	// 11 in the record).
+	if one.OneQuestion != 12 || r.OneQuestion != 0 {
+		t.Errorf("one_question: %d narrowed, %d whole", one.OneQuestion, r.OneQuestion)
+	}
 	if one.StudyData == nil || len(one.StudyData) != 0 {
 		t.Errorf("question 12's record carries another question's data (or null): %+v", one.StudyData)
 	}
