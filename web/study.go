@@ -116,7 +116,7 @@ func priorInSentence(label string, expert bool) string {
 type planView struct {
 	Form             *Form
 	Choices          []priorChoice
-	Default          string // the choice planned under unless another is asked for: the agreed prior
+	Default          string // the choice planned under unless another is asked for (defaultChoice)
 	Chosen           priorChoice
 	Ran              bool
 	Trials           int
@@ -248,7 +248,7 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	if len(priors) == 0 {
 		return v
 	}
-	v.Plan.Default = v.Plan.Choices[len(v.Plan.Choices)-1].Value
+	v.Plan.Default = defaultChoice(v.Plan.Choices, d.Weights.Scheme)
 	if v.Update != nil {
 		label := "Posterior after the recorded data"
 		v.Plan.Choices = append(v.Plan.Choices, priorChoice{Value: "posterior", Label: label, InSentence: priorInSentence(label, false),
@@ -286,6 +286,25 @@ const referenceName = "Uniform, for reference (no judgement)"
 func withReference(priors []elicit.NamedPrior) []elicit.NamedPrior {
 	out := append([]elicit.NamedPrior(nil), priors...)
 	return append(out, elicit.NamedPrior{Name: referenceName, Prior: elicit.Uniform(), Key: "uniform"})
+}
+
+// defaultChoice is the prior a study is planned under unless another is
+// asked for: the agreed prior, or without one the pool under the weights
+// in force. It was the last choice, which without an agreed prior is the
+// performance-weight pool even when it is only suggested: a question
+// with equal weights in force was planned, unasked, under performance
+// weights that put all the weight on one expert.
+func defaultChoice(choices []priorChoice, inForce workshop.WeightScheme) string {
+	want := map[workshop.WeightScheme]string{workshop.WeightsEqual: "pool-equal", workshop.WeightsCustom: "pool-custom",
+		workshop.WeightsPerformance: "pool-performance"}[inForce]
+	for _, key := range []string{"agreed", want} {
+		for _, c := range choices {
+			if c.Value == key {
+				return key
+			}
+		}
+	}
+	return choices[len(choices)-1].Value
 }
 
 // performanceWeights are the performance weights to compare under: those

@@ -232,3 +232,39 @@ func TestComparisonSaysWhichPriorsItUpdates(t *testing.T) {
 		t.Errorf("the comparison under custom weights says %q, want %q", got, want)
 	}
 }
+
+// Without an agreed prior a study is planned, unless another prior is
+// asked for, under the pool of the weights in force. It was planned
+// under the last prior offered, the performance-weight pool even when
+// only suggested: the demo's second question, under equal weights, was
+// planned under performance weights that gave one expert all the weight.
+func TestStudyWithoutAnAgreedPriorPlansUnderThePoolInForce(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[1].ID)
+	planned := func() string {
+		_, body := h.get(sp)
+		m := regexp.MustCompile(`<h3>Planned under: ([^,<]+),`).FindStringSubmatch(body)
+		if m == nil {
+			t.Fatal("the study page plans under no prior")
+		}
+		return html.UnescapeString(m[1])
+	}
+	if _, body := h.get(sp); !strings.Contains(body, ">Performance-weight pool (suggested): Beta(") || strings.Contains(body, "Agreed prior: Beta(") {
+		t.Fatal("the demo's second question no longer offers a suggested performance-weight pool without an agreed prior")
+	}
+	if got := planned(); got != "Equal-weight pool" {
+		t.Errorf("under equal weights the study is planned under %q", got)
+	}
+	if err := h.db.SetWeights(context.Background(), &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsCustom, Reason: "Invented: audits.",
+		ByExpert: map[int64]float64{es[0].ID: 3, es[1].ID: 1, es[2].ID: 1, es[3].ID: 1}}); err != nil {
+		t.Fatal(err)
+	}
+	if got := planned(); got != "Custom-weight pool (in force)" {
+		t.Errorf("under custom weights the study is planned under %q", got)
+	}
+	// With an agreed prior, under it (the demo's first question).
+	_, body := h.get(studyPath(ws.ID, qs[0].ID))
+	if !strings.Contains(body, "<h3>Planned under: Agreed prior, ") {
+		t.Error("the first question is not planned under its agreed prior")
+	}
+}
