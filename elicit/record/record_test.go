@@ -166,6 +166,14 @@ func TestRecordMatchesSchema(t *testing.T) {
 	if err := sch.Validate(asJSONValue(t, empty)); err != nil {
 		t.Fatalf("empty record does not match the schema: %v", err)
 	}
+	// A record narrowed to one question, with its one_question.
+	one, err := buildInvented(t).ForQuestion(12)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := sch.Validate(asJSONValue(t, one)); err != nil {
+		t.Fatalf("a record narrowed to one question does not match the schema: %v", err)
+	}
 }
 
 func TestSchemaRejects(t *testing.T) {
