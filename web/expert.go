@@ -662,10 +662,10 @@ func inputMode(q workshop.Question, name string) string {
 	switch {
 	case q.Format == workshop.FormatChips:
 		return "numeric"
-	case q.Lower < 0 && name != "confidence":
-		return "text"
+	case name == "confidence":
+		return "decimal"
 	}
-	return "decimal"
+	return valueKeyboard(q.Lower)
 }
 
 func fieldClass(f formField) string {

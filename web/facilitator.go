@@ -194,3 +194,14 @@ func (s *Server) pathID(w http.ResponseWriter, r *http.Request, name string) (in
 	}
 	return id, true
 }
+
+// valueKeyboard is the keyboard (inputmode) a phone is asked for to type
+// a value on bounds from lower: the decimal keypad, unless the value may
+// be below 0, since a phone's decimal keypad (the iPhone's) has no minus
+// key (signedNumberInput).
+func valueKeyboard(lower float64) string {
+	if lower < 0 {
+		return "text"
+	}
+	return "decimal"
+}

@@ -208,11 +208,11 @@ func questionFormPage(v questionForm) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = numberInput(v.Form, "lower", lockedLabel("lower"), "").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = signedNumberInput(v.Form, "lower", lockedLabel("lower"), "").Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = numberInput(v.Form, "upper", lockedLabel("upper"), "").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = signedNumberInput(v.Form, "upper", lockedLabel("upper"), "").Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
@@ -415,12 +415,12 @@ func questionFormPage(v questionForm) templ.Component {
 				return templ_7745c5c3_Err
 			}
 			if v.Edit != nil && v.Edit.Question.Frozen() {
-				templ_7745c5c3_Err = numberInput(v.Form, "true_value", lockedLabel("true_value")+" (shown to the experts)", "The experts have seen it; a new value here is shown to them too, and the calibration scores use it. On bounds 0 to 1 it may be typed as a percentage: 12.5% is 0.125.").Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = signedNumberInput(v.Form, "true_value", lockedLabel("true_value")+" (shown to the experts)", "The experts have seen it; a new value here is shown to them too, and the calibration scores use it. On bounds 0 to 1 it may be typed as a percentage: 12.5% is 0.125.").Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}
 			} else {
-				templ_7745c5c3_Err = numberInput(v.Form, "true_value", lockedLabel("true_value")+" (hidden from experts)", "Kept from experts until you reveal it; used to weight experts by their calibration. On bounds 0 to 1 it may be typed as a percentage: 12.5% is 0.125.").Render(ctx, templ_7745c5c3_Buffer)
+				templ_7745c5c3_Err = signedNumberInput(v.Form, "true_value", lockedLabel("true_value")+" (hidden from experts)", "Kept from experts until you reveal it; used to weight experts by their calibration. On bounds 0 to 1 it may be typed as a percentage: 12.5% is 0.125.").Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err
 				}

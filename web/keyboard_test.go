@@ -57,3 +57,55 @@ func TestNegativeValuesGetAKeyboardWithAMinus(t *testing.T) {
 		}
 	}
 }
+
+// The facilitator's boxes for values that may be below 0 ask a phone for
+// the full keyboard too: a question's bounds (a temperature change from
+// −10), its true value on the question form and on the calibration page
+// when the bounds go below 0, and the quick priors' mean and interval
+// ends; on the decimal keypad a facilitator on a phone could type no
+// minus. A proportion's true value on the calibration page keeps the
+// keypad.
+func TestFacilitatorsNegativeValuesGetAKeyboardWithAMinus(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	change := workshop.Question{WorkshopID: ws.ID, Wording: "Invented: by how many degrees will the hall's mean temperature change?", Quantity: "temperature change",
+		Units: "°C", Lower: -10, Upper: 10, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault, Calibration: true}
+	if err := h.db.AddQuestion(ctx, &change); err != nil {
+		t.Fatal(err)
+	}
+	box := regexp.MustCompile(`<input type="text" inputmode="([a-z]*)" autocomplete="off" id="([a-z0-9_-]+)"`)
+	modes := func(path string) map[string]string {
+		t.Helper()
+		res, body := h.get(path)
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("%s: %d", path, res.StatusCode)
+		}
+		got := map[string]string{}
+		for _, m := range box.FindAllStringSubmatch(body, -1) {
+			got[m[2]] = m[1]
+		}
+		return got
+	}
+	wsPath := "/w/" + strconv.FormatInt(ws.ID, 10)
+	calibration := map[string]string{seedInputID(change.ID, "true_value"): "text"}
+	for _, q := range qs {
+		if q.Calibration && q.IsProportion() {
+			calibration[seedInputID(q.ID, "true_value")] = "decimal"
+		}
+	}
+	if len(calibration) < 2 {
+		t.Fatal("the demo has no calibration question on a proportion")
+	}
+	for path, want := range map[string]map[string]string{
+		wsPath + "/q/" + strconv.FormatInt(change.ID, 10) + "/edit": {"f-lower": "text", "f-upper": "text", "f-true_value": "text"},
+		quickPriorsPath(ws.ID): {"f-c_mean": "text", "f-c_low": "text", "f-c_high": "text", "f-c_coverage": "decimal", "f-c_sd": "decimal"},
+		calibrationPath(ws.ID): calibration,
+	} {
+		got := modes(path)
+		for id, w := range want {
+			if got[id] != w {
+				t.Errorf("%s: #%s asks for inputmode %q, want %q", path, id, got[id], w)
+			}
+		}
+	}
+}

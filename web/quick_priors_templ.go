@@ -250,7 +250,7 @@ func constructionFields(f *Form, both bool) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(f, "c_mean", "Mean", "strictly between the bounds; on a proportion, e.g. 0.03 or 3%").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = signedNumberInput(f, "c_mean", "Mean", "strictly between the bounds; on a proportion, e.g. 0.03 or 3%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
@@ -281,11 +281,11 @@ func constructionFields(f *Form, both bool) templ.Component {
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(f, "c_low", "Low end", "on a proportion, e.g. 0.01 or 1%").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = signedNumberInput(f, "c_low", "Low end", "on a proportion, e.g. 0.01 or 1%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
-		templ_7745c5c3_Err = numberInput(f, "c_high", "High end", "on a proportion, e.g. 0.08 or 8%").Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = signedNumberInput(f, "c_high", "High end", "on a proportion, e.g. 0.08 or 8%").Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}
