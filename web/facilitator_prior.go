@@ -4,9 +4,11 @@ import (
 	"errors"
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -105,4 +107,85 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 func openRoundWarning(ws workshop.Workshop) string {
 	return "Round " + strconv.Itoa(ws.Round) + " is still open, so experts can still change their answers after this prior is recorded. " +
 		"Close the round first, or tick the box to record the prior now; the record will say it was agreed while the round was open."
+}
+
+// poolChange is how the pool under the agreed prior in force, when it
+// was taken from the pool, has changed since it was agreed
+// (workshop.AgreedPrior.PoolChangeSince): the experts pooled now are the
+// active ones with a fitted current judgement, as the agree form pooled
+// them. False when there is no such prior or nothing to compare.
+func (st questionState) poolChange() (workshop.PoolChange, bool) {
+	a := st.current()
+	if a == nil {
+		return workshop.PoolChange{}, false
+	}
+	now := map[int64]int64{}
+	for _, row := range st.Rows {
+		if row.Fit != nil && row.Revision != nil && !row.Expert.Revoked {
+			now[row.Expert.ID] = row.Revision.ID
+		}
+	}
+	expertOf := make(map[int64]int64, len(st.History))
+	for _, rv := range st.History {
+		expertOf[rv.ID] = rv.ExpertID
+	}
+	return a.PoolChangeSince(now, st.Weights.ID, expertOf)
+}
+
+// poolChangeWords says, under an agreed prior taken from the pool, that
+// the pool has moved since (c, from PoolChangeSince): who revised, who
+// joined or left the pool, whether other weights are in force. The prior
+// stays the single Beta of the pool as it was agreed, while the pool
+// above it on the panel and in the report is the pool now, and nothing
+// said so: a prior agreed in round 1 sat under a round-2 pool with
+// another single Beta, both named "custom-weight pool". "" when nothing
+// changed.
+func poolChangeWords(c workshop.PoolChange, name func(int64) string) string {
+	if !c.Any() {
+		return ""
+	}
+	names := func(ids []int64) string {
+		out := make([]string, len(ids))
+		for i, id := range ids {
+			out[i] = name(id)
+		}
+		return wordList(out)
+	}
+	var parts []string
+	if len(c.Revised) > 0 {
+		parts = append(parts, "revised since: "+names(c.Revised))
+	}
+	if len(c.Joined) > 0 {
+		parts = append(parts, "now in the pool: "+names(c.Joined))
+	}
+	if len(c.Left) > 0 {
+		parts = append(parts, "no longer in the pool: "+names(c.Left))
+	}
+	if c.Weights {
+		parts = append(parts, "other weights are in force")
+	}
+	return "The pool has changed since this prior was agreed (" + strings.Join(parts, "; ") + "). " +
+		"The prior is still the single Beta of the pool as it stood then, not of the pool shown above; " +
+		"record it again if the panel agrees the pool as it now stands."
+}
+
+// poolChange is questionState.poolChange for the report, read from the
+// record: question q's current fits of active experts are the pool now.
+func (v reportView) poolChange(q record.Question) (workshop.PoolChange, bool) {
+	if q.AgreedPrior == nil {
+		return workshop.PoolChange{}, false
+	}
+	now := map[int64]int64{}
+	for _, cf := range q.CurrentFits {
+		if cf.Fit != nil && !v.Experts[cf.ExpertID].Revoked {
+			now[cf.ExpertID] = cf.RevisionID
+		}
+	}
+	expertOf := map[int64]int64{}
+	for _, rv := range v.Record.Revisions {
+		if rv.QuestionID == q.ID {
+			expertOf[rv.ID] = rv.ExpertID
+		}
+	}
+	return q.AgreedPrior.PoolChangeSince(now, v.Record.Weights.ID, expertOf)
 }

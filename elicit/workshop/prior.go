@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -87,5 +88,74 @@ func (p AgreedPrior) Constructed() (elicit.Construction, bool) {
 	if err != nil {
 		return elicit.Construction{}, false
 	}
+	return c, true
+}
+
+// PoolChange is how the pool a prior from the pool was agreed from
+// (AgreedPrior.Pooled, AgreedPrior.WeightSetID) differs from the pool as
+// it stands now. Each list holds expert IDs in ascending order, which is
+// the roster's order.
+type PoolChange struct {
+	// Revised are experts pooled then and now whose current revision is
+	// no longer the one pooled: they saved again since.
+	Revised []int64
+	// Joined are experts pooled now who were not then: they answered
+	// since, or had their access back.
+	Joined []int64
+	// Left are experts pooled then who are not now: their access was
+	// revoked (or their latest answer could not be fitted).
+	Left []int64
+	// Weights is set when another weight set is in force than the one
+	// the prior was agreed under.
+	Weights bool
+}
+
+// Any reports whether the pool changed at all.
+func (c PoolChange) Any() bool {
+	return c.Weights || len(c.Revised) > 0 || len(c.Joined) > 0 || len(c.Left) > 0
+}
+
+// PoolChangeSince compares the pool prior p was agreed from with the
+// pool now: now maps each expert who would be pooled now (an active
+// expert with a fitted current revision, Member.Fitted) to that
+// revision's ID, weightSet is the weight set in force (Weights.ID), and
+// expertOf maps a revision's ID to its expert's. An agreed prior keeps
+// on standing for the pool as it was; once the panel moves under it (an
+// expert revises, a late expert answers, one is revoked, the weights
+// change), the pool the panel shows is no longer the pool the prior
+// represents, and the pages say so rather than let the two be read as
+// one. False when p is not from the pool, or was agreed before Parley
+// kept the revisions it pooled, so nothing can be compared.
+func (p AgreedPrior) PoolChangeSince(now map[int64]int64, weightSet int64, expertOf map[int64]int64) (PoolChange, bool) {
+	if p.Source != PriorFromPool || len(p.Pooled) == 0 {
+		return PoolChange{}, false
+	}
+	var c PoolChange
+	then := make(map[int64]int64, len(p.Pooled))
+	for _, rv := range p.Pooled {
+		e, ok := expertOf[rv]
+		if !ok {
+			return PoolChange{}, false
+		}
+		then[e] = rv
+	}
+	for e, rv := range then {
+		cur, ok := now[e]
+		switch {
+		case !ok:
+			c.Left = append(c.Left, e)
+		case cur != rv:
+			c.Revised = append(c.Revised, e)
+		}
+	}
+	for e := range now {
+		if _, ok := then[e]; !ok {
+			c.Joined = append(c.Joined, e)
+		}
+	}
+	slices.Sort(c.Revised)
+	slices.Sort(c.Joined)
+	slices.Sort(c.Left)
+	c.Weights = weightSet != p.WeightSetID
 	return c, true
 }

@@ -1,0 +1,75 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// A prior agreed from the pool stays the single Beta of the pool as it
+// was; when the panel moves under it, the panel and the report say so
+// beside it, naming what moved, instead of showing it under a pool it no
+// longer represents with the same pool's name.
+func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	const lead = "The pool has changed since this prior was agreed"
+	notices := func() (panel, report string) {
+		t.Helper()
+		_, p := h.get(qp)
+		_, r := h.get(workshopPath(ws.ID) + "/report")
+		pick := func(body string) string {
+			i := strings.Index(body, lead)
+			if i < 0 {
+				return ""
+			}
+			return body[i : i+strings.Index(body[i:], "<")]
+		}
+		return pick(p), pick(r)
+	}
+
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	if p, r := notices(); p != "" || r != "" {
+		t.Fatalf("just agreed, the pool is the one agreed; the pages say %q, %q", p, r)
+	}
+
+	// Tomas revises; Ole's access is revoked; other weights are set.
+	if res, _ := h.post(links[1].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save",
+		url.Values{"values[0]": {"0.01"}, "values[1]": {"0.06"}, "values[2]": {"0.2"}, "reason": {"Rethought the tail (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("Tomas revises: %d", res.StatusCode)
+	}
+	p, r := notices()
+	for _, got := range []string{p, r} {
+		if !strings.Contains(got, "revised since: Tomas Lindqvist") || strings.Contains(got, "Ole") || strings.Contains(got, "weights") {
+			t.Errorf("after Tomas revised: %q", got)
+		}
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, es[3].ID, "revoke"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke Ole: %d", res.StatusCode)
+	}
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	p, r = notices()
+	for _, got := range []string{p, r} {
+		if !strings.Contains(got, "revised since: Tomas Lindqvist; no longer in the pool: Ole Brandt; other weights are in force") {
+			t.Errorf("after Ole was revoked and weights set: %q", got)
+		}
+	}
+
+	// Agreed again, the prior stands for the pool as it now is.
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Again (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree again: %d %s", res.StatusCode, body)
+	}
+	if p, r := notices(); p != "" || r != "" {
+		t.Fatalf("agreed again; the pages still say %q, %q", p, r)
+	}
+}
