@@ -16,11 +16,15 @@ import (
 // last, warnings, is the prior's own warnings as the JSON record's
 // agreed_prior carries them, one "code: message" per line, empty when
 // there is none: a 5% point written as 0 says there how far from 0 it
-// lies.
+// lies. After it, retired is "true" for a question the facilitator
+// retired (hidden from the experts, kept in the record) after its prior
+// was agreed: the row stays, since the record keeps the prior, but a
+// project lead taking the file into a study must not read it as a prior
+// in use (the report's table leaves such a question out).
 var PriorsCSVHeader = []string{
 	"question_id", "quantity", "units", "lower", "upper", "alpha", "beta",
 	"mean", "sd", "q05", "q50", "q95", "source", "rationale", "agreed_at",
-	"invented", "caution", "warnings",
+	"invented", "caution", "warnings", "retired",
 }
 
 // WritePriorsCSV writes one row per question with an agreed prior, in
@@ -47,7 +51,7 @@ func (r Record) WritePriorsCSV(w io.Writer) error {
 			source += ": " + words // which construction, and its inputs
 		}
 		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano),
-			strconv.FormatBool(r.Workshop.Invented), Caution, cell(warningLines(a.Warnings)))
+			strconv.FormatBool(r.Workshop.Invented), Caution, cell(warningLines(a.Warnings)), strconv.FormatBool(q.Retired))
 		if err := cw.Write(row); err != nil {
 			return err
 		}

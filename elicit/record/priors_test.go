@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/csv"
 	"encoding/json"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -23,7 +24,7 @@ func TestWritePriorsCSV(t *testing.T) {
 	src.Priors[1].Rationale = "agreed in discussion,\nafter \"round 2\""
 	text, rows, back := priorsCSVAndRecord(t, src)
 	buf := bytes.NewBufferString(text)
-	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings\n"
+	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired\n"
 	if !strings.HasPrefix(buf.String(), header) {
 		t.Fatalf("header:\n%s", buf.String())
 	}
@@ -39,7 +40,7 @@ func TestWritePriorsCSV(t *testing.T) {
 				decimal(a.Dist.Lower), decimal(a.Dist.Upper), decimal(a.Dist.Alpha), decimal(a.Dist.Beta.Beta),
 				decimal(a.Mean), decimal(a.SD), decimal(a.Percentiles.P05), decimal(a.Percentiles.P50), decimal(a.Percentiles.P95),
 				string(a.Source), a.Rationale, a.At.UTC().Format(time.RFC3339Nano),
-				strconv.FormatBool(back.Workshop.Invented), back.Caution, ""})
+				strconv.FormatBool(back.Workshop.Invented), back.Caution, "", "false"})
 		}
 	}
 	if len(want) != 1 || len(rows) != 2 {
@@ -86,7 +87,7 @@ func TestPriorsCSVCarriesAPointWrittenAsABound(t *testing.T) {
 	if beyond == "" {
 		t.Fatalf("the JSON record's agreed_prior carries no beyond_double warning: %+v", a.Warnings)
 	}
-	cellText := rows[1][len(PriorsCSVHeader)-1]
+	cellText := rows[1][slices.Index(PriorsCSVHeader, "warnings")]
 	if rows[1][9] != "0" || !strings.Contains(cellText, "beyond_double: "+beyond) {
 		t.Errorf("q05 %q, warnings %q: want 0 and the record's beyond_double warning %q", rows[1][9], cellText, beyond)
 	}
