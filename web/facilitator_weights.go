@@ -66,3 +66,26 @@ func (s *Server) setWeights(w http.ResponseWriter, r *http.Request) {
 	}
 	http.Redirect(w, r, questionPath(ws.ID, q.ID)+"#pool", http.StatusSeeOther)
 }
+
+// unweighedWords says that the custom weights in force leave out the
+// experts es (workshop.Weights.Unweighed: added, or given access back,
+// after the weights were set), so each has weight 0 in every pool
+// though nobody decided so; "" when there are none. The panel showed a
+// late expert's "0%" with no word why, and the pool agreed from it
+// counted them for nothing.
+func unweighedWords(es []workshop.Expert) string {
+	if len(es) == 0 {
+		return ""
+	}
+	names := make([]string, len(es))
+	for i, e := range es {
+		names[i] = e.Name
+	}
+	if len(es) == 1 {
+		n := names[0]
+		return "These weights were set before " + n + " joined the panel or had access back, so they give " + n +
+			" weight 0: " + n + "'s judgements count for nothing in the pools. Set the weights again to give " + n + " a share."
+	}
+	return "These weights were set before " + wordList(names) + " joined the panel or had access back, so they give each of them" +
+		" weight 0: their judgements count for nothing in the pools. Set the weights again to give them a share."
+}

@@ -31,3 +31,18 @@ func TestPoolChangeSince(t *testing.T) {
 		}
 	}
 }
+
+// Custom weights leave out the active experts they do not name; equal
+// and performance weights leave out nobody by this rule.
+func TestUnweighed(t *testing.T) {
+	es := []Expert{{ID: 1}, {ID: 2}, {ID: 3, Revoked: true}, {ID: 4}}
+	custom := Weights{Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 0}}
+	if got := custom.Unweighed(es); len(got) != 1 || got[0].ID != 4 {
+		t.Errorf("custom weights naming 1 and 2: %+v, want expert 4 (3 is revoked)", got)
+	}
+	for _, w := range []Weights{{Scheme: WeightsEqual}, {Scheme: WeightsPerformance, ByExpert: map[int64]float64{1: 1}}} {
+		if got := w.Unweighed(es); got != nil {
+			t.Errorf("%s weights: %+v, want none", w.Scheme, got)
+		}
+	}
+}

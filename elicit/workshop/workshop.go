@@ -389,6 +389,28 @@ func (w Weights) Of(expertID int64) float64 {
 	return w.ByExpert[expertID]
 }
 
+// Unweighed lists the active experts of es that custom weights w do not
+// name, in es's order: experts added to the panel, or given their access
+// back, after w was set (the form that sets them names every active
+// expert). Of gives them weight 0, so their judgements count for nothing
+// in any pool, though nobody decided so; the pages say it, so that the
+// facilitator sets the weights again. Nil under equal weights, and under
+// performance weights, whose weight 0 is the classical model's verdict
+// (the calibration page says when the weights in force are no longer the
+// scores').
+func (w Weights) Unweighed(es []Expert) []Expert {
+	if w.Scheme != WeightsCustom {
+		return nil
+	}
+	var out []Expert
+	for _, e := range es {
+		if _, ok := w.ByExpert[e.ID]; !ok && !e.Revoked {
+			out = append(out, e)
+		}
+	}
+	return out
+}
+
 // PriorSource says how an agreed prior was reached.
 type PriorSource string
 

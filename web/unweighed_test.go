@@ -1,0 +1,75 @@
+package web
+
+import (
+	"net/http"
+	"net/url"
+	"strings"
+	"testing"
+)
+
+// Custom weights name the experts active when they were set. An expert
+// added later, or given their access back, has weight 0 under them; the
+// panel and the report say so, by name, until the weights are set again,
+// instead of a bare "0%" in the panel's table.
+func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	setWeights := func(ids map[int64]string) {
+		t.Helper()
+		wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+		for id, w := range ids {
+			wf.Set(weightField(id), w)
+		}
+		if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("set weights: %d %s", res.StatusCode, body)
+		}
+	}
+	notices := func() (panel, report string) {
+		t.Helper()
+		_, p := h.get(qp)
+		_, r := h.get(workshopPath(ws.ID) + "/report")
+		pick := func(body string) string {
+			i := strings.Index(body, "These weights were set before")
+			if i < 0 {
+				return ""
+			}
+			return body[i : i+strings.Index(body[i:], "<")]
+		}
+		return pick(p), pick(r)
+	}
+	// Tomas is revoked when the weights are set, so they leave him out.
+	if res, _ := h.post(expertActionPath(ws.ID, es[1].ID, "revoke"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d", res.StatusCode)
+	}
+	setWeights(map[int64]string{es[0].ID: "2", es[2].ID: "1", es[3].ID: "1"})
+	if p, r := notices(); p != "" || r != "" {
+		t.Fatalf("weights naming every active expert: %q, %q", p, r)
+	}
+	h.addExpert(ws, "Lena Okafor (invented)")
+	p, r := notices()
+	for _, got := range []string{p, r} {
+		if !strings.Contains(got, "before Lena Okafor (invented) joined the panel or had access back, so they give Lena Okafor (invented) weight 0") {
+			t.Errorf("a late expert: %q", got)
+		}
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, es[1].ID, "reissue"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reissue: %d", res.StatusCode)
+	}
+	p, r = notices()
+	for _, got := range []string{p, r} {
+		if !strings.Contains(got, "before Tomas Lindqvist and Lena Okafor (invented) joined the panel or had access back, so they give each of them weight 0") {
+			t.Errorf("a late expert and one given access back: %q", got)
+		}
+	}
+	// Set again, naming everyone (a weight of 0 included, as decided).
+	all, _ := h.db.Experts(t.Context(), ws.ID)
+	ids := map[int64]string{}
+	for _, e := range all {
+		ids[e.ID] = "1"
+	}
+	ids[all[len(all)-1].ID] = "0"
+	setWeights(ids)
+	if p, r := notices(); p != "" || r != "" {
+		t.Fatalf("weights set again: %q, %q", p, r)
+	}
+}
