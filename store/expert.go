@@ -121,27 +121,46 @@ func (db *DB) ReissueToken(ctx context.Context, expertID int64, tokenHash []byte
 	if len(tokenHash) == 0 {
 		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
 	}
-	return db.expertDecision(ctx, expertID, workshop.EventTokenReissued, reason,
+	return db.expertDecision(ctx, expertID, workshop.EventTokenReissued, reason, nil,
 		`UPDATE experts SET token_hash = ?, revoked = 0 WHERE id = ?`, tokenHash, expertID)
 }
 
 // RevokeExpert stops an expert's access token from working and records
-// EventExpertRevoked. Their revisions stay in the record.
+// EventExpertRevoked. Their revisions stay in the record. An expert whose
+// access is already revoked is refused (workshop.RuleNothingChanged, on
+// the field "action"), as a question already retired or a workshop
+// already archived is: a second tab's revoke recorded the revocation
+// twice in the decision log, the second with its own reason.
 func (db *DB) RevokeExpert(ctx context.Context, expertID int64, reason string) error {
-	return db.expertDecision(ctx, expertID, workshop.EventExpertRevoked, reason,
+	already := func(revoked bool) error {
+		if revoked {
+			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the expert's access is already revoked"}
+		}
+		return nil
+	}
+	return db.expertDecision(ctx, expertID, workshop.EventExpertRevoked, reason, already,
 		`UPDATE experts SET revoked = 1 WHERE id = ?`, expertID)
 }
 
-// expertDecision runs one UPDATE of an expert together with its event.
-func (db *DB) expertDecision(ctx context.Context, expertID int64, kind workshop.EventKind, reason, update string, args ...any) error {
+// expertDecision runs one UPDATE of an expert together with its event,
+// after check (when not nil) has accepted the expert's revoked state as
+// it stands in the transaction.
+func (db *DB) expertDecision(ctx context.Context, expertID int64, kind workshop.EventKind, reason string,
+	check func(revoked bool) error, update string, args ...any) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		var workshopID int64
-		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM experts WHERE id = ?`, expertID).Scan(&workshopID)
+		var revoked int
+		err := tx.QueryRowContext(ctx, `SELECT workshop_id, revoked FROM experts WHERE id = ?`, expertID).Scan(&workshopID, &revoked)
 		if errors.Is(err, sql.ErrNoRows) {
 			return notFound("expert", expertID)
 		}
 		if err != nil {
 			return fmt.Errorf("store: expert %d: %w", expertID, err)
+		}
+		if check != nil {
+			if err := check(revoked == 1); err != nil {
+				return err
+			}
 		}
 		if _, err := tx.ExecContext(ctx, update, args...); err != nil {
 			return fmt.Errorf("store: expert %d: %s: %w", expertID, kind, err)

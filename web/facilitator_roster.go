@@ -1,12 +1,14 @@
 package web
 
 import (
+	"errors"
 	"net/http"
 	"strconv"
 	"time"
 
 	"github.com/a-h/templ"
 
+	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -150,12 +152,26 @@ func (s *Server) revokeExpert(w http.ResponseWriter, r *http.Request) {
 	}
 	f := newForm(r.PostForm)
 	reason := f.Text("reason", input.MaxLongText, false)
+	// Revoked already (in another tab, or another browser): said above
+	// the roster, which shows them revoked, before any confirmation.
+	alreadyRevoked := func() {
+		f.set("", e.Name+"'s access is already revoked, so nothing changed. To give them access again, use “New link…” beside their name.")
+		s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+	}
+	if e.Revoked {
+		alreadyRevoked()
+		return
+	}
 	if !s.confirmed(w, r, ws, e, f, "Revoke "+e.Name, revokePage) {
 		return
 	}
 	if err := s.store.RevokeExpert(r.Context(), e.ID, reason); err != nil {
 		if s.notSaved(r, f, err) {
 			s.showOverview(w, r, f.refusedStatus(), ws, workshopView{RosterForm: f})
+			return
+		}
+		if ie := (*elicit.InputError)(nil); errors.As(err, &ie) && ie.Rule == workshop.RuleNothingChanged {
+			alreadyRevoked()
 			return
 		}
 		s.fail(w, r, err)

@@ -1,0 +1,46 @@
+package store
+
+import (
+	"context"
+	"errors"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// Revoking an expert whose access is already revoked changes nothing and
+// is refused, as retiring a retired question is; a second tab's revoke
+// recorded the revocation twice in the decision log. A new link lifts
+// the revocation, and the expert can then be revoked again.
+func TestRevokeTwiceIsRefused(t *testing.T) {
+	db := newDB(t)
+	p := seed(t, db)
+	ctx := context.Background()
+	e := p.experts[0]
+	count := func() int {
+		evs, err := db.Events(ctx, p.w.ID)
+		must(t, err)
+		n := 0
+		for _, ev := range evs {
+			if ev.Kind == workshop.EventExpertRevoked {
+				n++
+			}
+		}
+		return n
+	}
+	must(t, db.RevokeExpert(ctx, e.ID, "left the panel"))
+	err := db.RevokeExpert(ctx, e.ID, "left, said again")
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Rule != workshop.RuleNothingChanged || ie.Field != "action" {
+		t.Fatalf("revoking a revoked expert: %v, want %q on action", err, workshop.RuleNothingChanged)
+	}
+	if n := count(); n != 1 {
+		t.Fatalf("%d revocations recorded, want 1", n)
+	}
+	must(t, db.ReissueToken(ctx, e.ID, []byte("another token hash"), "back"))
+	must(t, db.RevokeExpert(ctx, e.ID, "left again"))
+	if n := count(); n != 2 {
+		t.Fatalf("%d revocations recorded after a new link and a revoke, want 2", n)
+	}
+}
