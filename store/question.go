@@ -6,6 +6,7 @@ import (
 	"encoding/json"
 	"errors"
 	"fmt"
+	"strconv"
 	"time"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -146,6 +147,14 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 		// question before its reveal asks to store the value hidden, which
 		// would record a change of the scored value without the value.
 		reveal = reveal || q.Revealed
+		// The value already shown, shown again, changes nothing: a second
+		// tab's reveal was recorded as a second reveal, with its own
+		// reason. (A hidden value entered again records only that it was
+		// entered, which tells nothing of it.)
+		if q.Revealed && q.TrueValue != nil && *q.TrueValue == value {
+			return &elicit.InputError{Field: "true_value", Rule: workshop.RuleNothingChanged,
+				Detail: "the true value shown to the experts is already " + strconv.FormatFloat(value, 'g', -1, 64)}
+		}
 		if _, err := tx.ExecContext(ctx, `UPDATE questions SET true_value = ?, revealed = ? WHERE id = ?`,
 			value, boolInt(reveal), questionID); err != nil {
 			return fmt.Errorf("store: set true value: %w", err)
