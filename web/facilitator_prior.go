@@ -165,8 +165,8 @@ func poolChangeWords(c workshop.PoolChange, name func(int64) string) string {
 		parts = append(parts, "other weights are in force")
 	}
 	return "The pool has changed since this prior was agreed (" + strings.Join(parts, "; ") + "). " +
-		"The prior is still the single Beta of the pool as it stood then, not of the pool shown above; " +
-		"record it again if the panel agrees the pool as it now stands."
+		"The prior is still the single Beta of the pool as it stood then, not of the pool as it stands now; " +
+		"record it again on the question's page if the panel agrees the pool as it now stands."
 }
 
 // poolChange is questionState.poolChange for the report, read from the

@@ -9,17 +9,18 @@ import (
 )
 
 // A prior agreed from the pool stays the single Beta of the pool as it
-// was; when the panel moves under it, the panel and the report say so
-// beside it, naming what moved, instead of showing it under a pool it no
-// longer represents with the same pool's name.
+// was; when the panel moves under it, the panel, the report and the
+// study page say so beside it, naming what moved, instead of showing it
+// under a pool it no longer represents with the same pool's name.
 func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 	h, ws, qs, es, links := seeded(t)
 	qp := questionPath(ws.ID, qs[0].ID)
 	const lead = "The pool has changed since this prior was agreed"
-	notices := func() (panel, report string) {
+	notices := func() (panel, report, study string) {
 		t.Helper()
 		_, p := h.get(qp)
 		_, r := h.get(workshopPath(ws.ID) + "/report")
+		_, st := h.get(studyPath(ws.ID, qs[0].ID))
 		pick := func(body string) string {
 			i := strings.Index(body, lead)
 			if i < 0 {
@@ -27,14 +28,14 @@ func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 			}
 			return body[i : i+strings.Index(body[i:], "<")]
 		}
-		return pick(p), pick(r)
+		return pick(p), pick(r), pick(st)
 	}
 
 	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
 	}
-	if p, r := notices(); p != "" || r != "" {
-		t.Fatalf("just agreed, the pool is the one agreed; the pages say %q, %q", p, r)
+	if p, r, st := notices(); p != "" || r != "" || st != "" {
+		t.Fatalf("just agreed, the pool is the one agreed; the pages say %q, %q, %q", p, r, st)
 	}
 
 	// Tomas revises; Ole's access is revoked; other weights are set.
@@ -42,8 +43,8 @@ func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 		url.Values{"values[0]": {"0.01"}, "values[1]": {"0.06"}, "values[2]": {"0.2"}, "reason": {"Rethought the tail (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("Tomas revises: %d", res.StatusCode)
 	}
-	p, r := notices()
-	for _, got := range []string{p, r} {
+	p, r, st := notices()
+	for _, got := range []string{p, r, st} {
 		if !strings.Contains(got, "revised since: Tomas Lindqvist") || strings.Contains(got, "Ole") || strings.Contains(got, "weights") {
 			t.Errorf("after Tomas revised: %q", got)
 		}
@@ -58,8 +59,8 @@ func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("set weights: %d %s", res.StatusCode, body)
 	}
-	p, r = notices()
-	for _, got := range []string{p, r} {
+	p, r, st = notices()
+	for _, got := range []string{p, r, st} {
 		if !strings.Contains(got, "revised since: Tomas Lindqvist; no longer in the pool: Ole Brandt; other weights are in force") {
 			t.Errorf("after Ole was revoked and weights set: %q", got)
 		}
@@ -69,7 +70,7 @@ func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Again (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("agree again: %d %s", res.StatusCode, body)
 	}
-	if p, r := notices(); p != "" || r != "" {
-		t.Fatalf("agreed again; the pages still say %q, %q", p, r)
+	if p, r, st := notices(); p != "" || r != "" || st != "" {
+		t.Fatalf("agreed again; the pages still say %q, %q, %q", p, r, st)
 	}
 }

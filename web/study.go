@@ -64,14 +64,18 @@ type studyView struct {
 	// AgreedPool names the pool a prior from the pool came from by its
 	// weights (pooledBy), as the question's panel does; "" when not known.
 	AgreedPool string
-	Proportion bool
-	Data       []workshop.StudyData // this question's batches, oldest first
-	DataForm   *Form
-	Update     *workshop.Update
-	UpdateErr  string
-	UpdatePic  chart.PanelView
-	Plan       planView
-	Planned    *sensitivityBlock // posteriors at the planned study's typical outcome
+	// PoolChanged says how the pool a prior from the pool was agreed
+	// from has changed since (poolChangeWords), "" when it has not: the
+	// study takes the prior as agreed.
+	PoolChanged string
+	Proportion  bool
+	Data        []workshop.StudyData // this question's batches, oldest first
+	DataForm    *Form
+	Update      *workshop.Update
+	UpdateErr   string
+	UpdatePic   chart.PanelView
+	Plan        planView
+	Planned     *sensitivityBlock // posteriors at the planned study's typical outcome
 	// PlannedOutcome is that typical outcome (successes in the planned
 	// trials); when the plan is under the posterior after the recorded
 	// data, Planned updates each prior with the data and it together.
@@ -207,6 +211,9 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	v := studyView{Workshop: d.Workshop, Question: q, Agreed: st.current(), Proportion: q.IsProportion(), DataForm: df}
 	if v.Agreed != nil {
 		v.AgreedPool = pooledBy(*v.Agreed, []workshop.Weights{d.Weights}, d.Weights.ID == 0)
+		if c, ok := st.poolChange(); ok {
+			v.PoolChanged = poolChangeWords(c, func(id int64) string { return expertName(d.Experts, id) })
+		}
 	}
 	for _, b := range data {
 		if b.QuestionID == q.ID {
