@@ -57,7 +57,7 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 // the weights of the pool it came from, among the weight sets sets);
 // c is the record's fingerprint chain.
 func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, sets []workshop.Weights, c fingerprint.Chain) logView {
-	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}, weightSets: sets}
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, revoked: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}, weightSets: sets}
 	for _, rv := range revs {
 		w.revisions[rv.ID] = rv
 	}
@@ -211,7 +211,13 @@ type eventWriter struct {
 	questions map[int64]workshop.Question
 	experts   []workshop.Expert
 	revealed  map[int64]bool
-	priors    []workshop.AgreedPrior
+	// revoked remembers which experts' access a revocation earlier in the
+	// log ended, so that a new link given to one reads as their access
+	// given back, which it is: it said only that the old link "stopped
+	// working", of a link stopped long before, and not that the expert's
+	// judgements were back in every pool.
+	revoked map[int64]bool
+	priors  []workshop.AgreedPrior
 	// weightSets are the workshop's weight sets, oldest first, which name
 	// the pool a prior from the pool came from.
 	weightSets []workshop.Weights
@@ -327,10 +333,19 @@ func (w eventWriter) sentence(e workshop.Event) string {
 		}
 	case workshop.EventExpertRevoked:
 		if d.ExpertID != 0 {
+			if w.revoked != nil {
+				w.revoked[d.ExpertID] = true
+			}
 			return w.expert(d.ExpertID) + "'s private link stopped working."
 		}
 	case workshop.EventTokenReissued:
 		if d.ExpertID != 0 {
+			if w.revoked[d.ExpertID] {
+				// A new link lifts the revocation (store.ReissueToken):
+				// every pool takes the expert's judgements again.
+				w.revoked[d.ExpertID] = false
+				return w.expert(d.ExpertID) + " was given access back, with a new private link; their judgements count in the pools again."
+			}
 			return w.expert(d.ExpertID) + " was given a new private link; the old one stopped working."
 		}
 	case workshop.EventQuestionAdded:
