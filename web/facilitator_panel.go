@@ -287,6 +287,9 @@ type panelView struct {
 	Recorded     recordedData // study data the agreed prior is updated with
 	// Sheets says which answer sheet and row a judgement came from.
 	Sheets map[int64]workshop.SheetSource
+	// PoolChanged says how the pool the agreed prior was taken from has
+	// changed since (Server.poolChangeText); "" when it has not.
+	PoolChanged string
 	// Done says what the form that led here saved (doneCorrected,
 	// doneRestored), or "": the confirmation shown once (confirm_once.go).
 	Done string
@@ -381,6 +384,10 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 		v.Done = s.takeConfirmation(w, r, questionPath(ws.ID, q.ID), doneCorrected, doneRestored)
 	}
 	v.Strength = panelStrength(d)
+	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, st, d.Experts); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	if v.Recorded, err = s.recordedFor(r.Context(), ws, q); err != nil {
 		s.fail(w, r, err)
 		return

@@ -1,6 +1,7 @@
 package web
 
 import (
+	"context"
 	"errors"
 	"net/http"
 	"strconv"
@@ -111,10 +112,11 @@ func openRoundWarning(ws workshop.Workshop) string {
 
 // poolChange is how the pool under the agreed prior in force, when it
 // was taken from the pool, has changed since it was agreed
-// (workshop.AgreedPrior.PoolChangeSince): the experts pooled now are the
+// (workshop.AgreedPrior.PoolChangeSince, with then the weight set in
+// force at the agreement, agreedUnder): the experts pooled now are the
 // active ones with a fitted current judgement, as the agree form pooled
 // them. False when there is no such prior or nothing to compare.
-func (st questionState) poolChange() (workshop.PoolChange, bool) {
+func (st questionState) poolChange(then *workshop.Weights) (workshop.PoolChange, bool) {
 	a := st.current()
 	if a == nil {
 		return workshop.PoolChange{}, false
@@ -129,7 +131,46 @@ func (st questionState) poolChange() (workshop.PoolChange, bool) {
 	for _, rv := range st.History {
 		expertOf[rv.ID] = rv.ExpertID
 	}
-	return a.PoolChangeSince(now, st.Weights.ID, expertOf)
+	return a.PoolChangeSince(now, st.Weights, then, expertOf)
+}
+
+// poolChangeText is poolChangeWords for question state st, its experts
+// named from es; "" when the pool under its agreed prior has not
+// changed. The weight set the prior was agreed under is read only when
+// another is in force.
+func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st questionState, es []workshop.Expert) (string, error) {
+	a := st.current()
+	if a == nil || a.Source != workshop.PriorFromPool {
+		return "", nil
+	}
+	var then *workshop.Weights
+	switch {
+	case a.WeightSetID == st.Weights.ID:
+		then = &st.Weights
+	case a.WeightSetID == 0:
+		then = &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsEqual}
+	default:
+		sets, err := s.store.WeightHistory(ctx, ws.ID)
+		if err != nil {
+			return "", err
+		}
+		then = weightSetByID(sets, a.WeightSetID)
+	}
+	c, ok := st.poolChange(then)
+	if !ok {
+		return "", nil
+	}
+	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }), nil
+}
+
+// weightSetByID is the set of sets with the given ID, or nil.
+func weightSetByID(sets []workshop.Weights, id int64) *workshop.Weights {
+	for i := range sets {
+		if sets[i].ID == id {
+			return &sets[i]
+		}
+	}
+	return nil
 }
 
 // poolChangeWords says, under an agreed prior taken from the pool, that
@@ -187,5 +228,9 @@ func (v reportView) poolChange(q record.Question) (workshop.PoolChange, bool) {
 			expertOf[rv.ID] = rv.ExpertID
 		}
 	}
-	return q.AgreedPrior.PoolChangeSince(now, v.Record.Weights.ID, expertOf)
+	then := weightSetByID(v.Record.WeightHistory, q.AgreedPrior.WeightSetID)
+	if q.AgreedPrior.WeightSetID == 0 {
+		then = &workshop.Weights{Scheme: workshop.WeightsEqual}
+	}
+	return q.AgreedPrior.PoolChangeSince(now, v.Record.Weights, then, expertOf)
 }

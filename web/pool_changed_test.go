@@ -74,3 +74,22 @@ func TestAgreedPoolPriorSaysThePoolChanged(t *testing.T) {
 		t.Fatalf("agreed again; the pages still say %q, %q, %q", p, r, st)
 	}
 }
+
+// Weights applied again as they stood do not change the pool: a prior
+// agreed under equal weights (none set) stays the pool's after equal
+// weights are applied, and the pages say nothing of a change.
+func TestEqualWeightsAppliedAgainLeaveThePool(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	if res, body := h.post(qp+"/weights", url.Values{"scheme": {"equal"}, "reason": {"Equal, said aloud (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("equal weights: %d %s", res.StatusCode, body)
+	}
+	for _, page := range []string{qp, studyPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/report"} {
+		if _, body := h.get(page); strings.Contains(body, "The pool has changed since this prior was agreed") {
+			t.Errorf("%s says the pool changed", page)
+		}
+	}
+}

@@ -83,6 +83,7 @@ type Store interface {
 	// Facilitator decisions.
 	SetWeights(ctx context.Context, w *workshop.Weights) error                          // records EventWeightsSet
 	Weights(ctx context.Context, workshopID int64) (workshop.Weights, error)            // equal when never set
+	WeightHistory(ctx context.Context, workshopID int64) ([]workshop.Weights, error)    // every set applied, oldest first
 	AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error                      // records EventPriorAgreed
 	AgreedPriors(ctx context.Context, workshopID int64) ([]workshop.AgreedPrior, error) // oldest first
 	Events(ctx context.Context, workshopID int64) ([]workshop.Event, error)             // oldest first

@@ -192,6 +192,10 @@ func (s *Server) showStudy(w http.ResponseWriter, r *http.Request, ws workshop.W
 		df = newForm(nil)
 	}
 	v := buildStudy(r.Context(), d, q, data, df, newForm(r.URL.Query()))
+	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, d.state(q), d.Experts); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	status := http.StatusOK
 	if !df.OK() || !v.Plan.Form.OK() {
 		status = df.refusedStatus()
@@ -211,9 +215,6 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	v := studyView{Workshop: d.Workshop, Question: q, Agreed: st.current(), Proportion: q.IsProportion(), DataForm: df}
 	if v.Agreed != nil {
 		v.AgreedPool = pooledBy(*v.Agreed, []workshop.Weights{d.Weights}, d.Weights.ID == 0)
-		if c, ok := st.poolChange(); ok {
-			v.PoolChanged = poolChangeWords(c, func(id int64) string { return expertName(d.Experts, id) })
-		}
 	}
 	for _, b := range data {
 		if b.QuestionID == q.ID {

@@ -14,10 +14,12 @@ func TestPoolChangeSince(t *testing.T) {
 	expertOf := map[int64]int64{11: 1, 12: 2, 13: 3, 14: 2, 15: 4}
 	p := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12, 13}, WeightSetID: 5}
 
-	if c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13}, 5, expertOf); !ok || c.Any() {
+	set5 := Weights{ID: 5, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 1}}
+	if c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13}, set5, nil, expertOf); !ok || c.Any() {
 		t.Errorf("the same pool: %+v, %v; want no change", c, ok)
 	}
-	c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 14, 4: 15}, 6, expertOf)
+	set6 := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 1, 3: 1}}
+	c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 14, 4: 15}, set6, &set5, expertOf)
 	if !ok || fmt.Sprint(c.Revised, c.Joined, c.Left, c.Weights) != "[2] [4] [3] true" || !c.Any() {
 		t.Errorf("expert 2 revised, 4 answered, 3 revoked, weights changed: got %+v, %v", c, ok)
 	}
@@ -26,9 +28,35 @@ func TestPoolChangeSince(t *testing.T) {
 		{Source: PriorFromPool},                      // agreed before Parley kept the pooled revisions
 		{Source: PriorFromPool, Pooled: []int64{99}}, // a revision the caller does not know
 	} {
-		if _, ok := other.PoolChangeSince(map[int64]int64{1: 11}, 5, expertOf); ok {
+		if _, ok := other.PoolChangeSince(map[int64]int64{1: 11}, set5, nil, expertOf); ok {
 			t.Errorf("%+v: compared, want nothing to compare", other)
 		}
+	}
+}
+
+// Weights set again as they were weigh the pool alike: equal weights
+// applied where none had been, or the same custom weights once more, are
+// no change; other weights are, and so is a set the caller cannot name.
+func TestPoolChangeSinceWeightsAlike(t *testing.T) {
+	expertOf := map[int64]int64{11: 1, 12: 2}
+	now := map[int64]int64{1: 11, 2: 12}
+	none := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12}}
+	equal := Weights{Scheme: WeightsEqual}
+	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsEqual}, &equal, expertOf); c.Any() {
+		t.Errorf("equal weights applied after a prior agreed under none: %+v, want no change", c)
+	}
+	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 3}}, &equal, expertOf); !c.Weights {
+		t.Error("custom weights after equal ones: no change, want one")
+	}
+	custom := Weights{ID: 3, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 3}}
+	under := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12}, WeightSetID: 3}
+	again := custom
+	again.ID = 4
+	if c, _ := under.PoolChangeSince(now, again, &custom, expertOf); c.Any() {
+		t.Errorf("the same custom weights set again: %+v, want no change", c)
+	}
+	if c, _ := under.PoolChangeSince(now, again, nil, expertOf); !c.Weights {
+		t.Error("another set, the earlier one not known: no change, want one")
 	}
 }
 

@@ -3,6 +3,7 @@ package workshop
 import (
 	"errors"
 	"fmt"
+	"maps"
 	"math"
 	"slices"
 
@@ -118,28 +119,31 @@ func (c PoolChange) Any() bool {
 // PoolChangeSince compares the pool prior p was agreed from with the
 // pool now: now maps each expert who would be pooled now (an active
 // expert with a fitted current revision, Member.Fitted) to that
-// revision's ID, weightSet is the weight set in force (Weights.ID), and
-// expertOf maps a revision's ID to its expert's. An agreed prior keeps
-// on standing for the pool as it was; once the panel moves under it (an
-// expert revises, a late expert answers, one is revoked, the weights
-// change), the pool the panel shows is no longer the pool the prior
-// represents, and the pages say so rather than let the two be read as
-// one. False when p is not from the pool, or was agreed before Parley
-// kept the revisions it pooled, so nothing can be compared.
-func (p AgreedPrior) PoolChangeSince(now map[int64]int64, weightSet int64, expertOf map[int64]int64) (PoolChange, bool) {
+// revision's ID, in are the weights in force, then the weight set in
+// force when p was agreed (the set whose ID is p.WeightSetID, equal
+// weights when it is 0; nil when the caller does not have it, and then
+// any other set in force counts as a change), and expertOf maps a
+// revision's ID to its expert's. An agreed prior keeps on standing for
+// the pool as it was; once the panel moves under it (an expert revises,
+// a late expert answers, one is revoked, the weights change), the pool
+// the panel shows is no longer the pool the prior represents, and the
+// pages say so rather than let the two be read as one. False when p is
+// not from the pool, or was agreed before Parley kept the revisions it
+// pooled, so nothing can be compared.
+func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weights, expertOf map[int64]int64) (PoolChange, bool) {
 	if p.Source != PriorFromPool || len(p.Pooled) == 0 {
 		return PoolChange{}, false
 	}
 	var c PoolChange
-	then := make(map[int64]int64, len(p.Pooled))
+	pooled := make(map[int64]int64, len(p.Pooled))
 	for _, rv := range p.Pooled {
 		e, ok := expertOf[rv]
 		if !ok {
 			return PoolChange{}, false
 		}
-		then[e] = rv
+		pooled[e] = rv
 	}
-	for e, rv := range then {
+	for e, rv := range pooled {
 		cur, ok := now[e]
 		switch {
 		case !ok:
@@ -149,13 +153,30 @@ func (p AgreedPrior) PoolChangeSince(now map[int64]int64, weightSet int64, exper
 		}
 	}
 	for e := range now {
-		if _, ok := then[e]; !ok {
+		if _, ok := pooled[e]; !ok {
 			c.Joined = append(c.Joined, e)
 		}
 	}
 	slices.Sort(c.Revised)
 	slices.Sort(c.Joined)
 	slices.Sort(c.Left)
-	c.Weights = weightSet != p.WeightSetID
+	switch {
+	case in.ID == p.WeightSetID:
+	case then == nil:
+		c.Weights = true
+	default:
+		c.Weights = !sameWeights(*then, in)
+	}
 	return c, true
+}
+
+// sameWeights reports whether two weight sets weigh every expert alike:
+// both equal weights (a set of equal weights applied again, or applied
+// where none had been), or the same scheme with the same weights.
+func sameWeights(a, b Weights) bool {
+	eq := func(w Weights) bool { return w.Scheme == WeightsEqual || w.Scheme == "" }
+	if eq(a) || eq(b) {
+		return eq(a) && eq(b)
+	}
+	return a.Scheme == b.Scheme && maps.Equal(a.ByExpert, b.ByExpert)
 }
