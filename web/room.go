@@ -168,6 +168,15 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		verb := "answered"
 		if ws.Round > 1 {
 			verb = "revised"
+			// A question added since the last close has first answers
+			// in this round, not revisions.
+			evs, err := s.store.Events(r.Context(), ws.ID)
+			if err != nil {
+				return err
+			}
+			if addedAfterClose(evs, q.ID, ws.Round-1) {
+				verb = "answered"
+			}
 		}
 		v.Progress = roomProgress(answered, active, verb, ws.Round)
 	default:
@@ -206,6 +215,13 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	}
 	if fb == nil {
 		v.Note = "Nobody had answered this question when round " + strconv.Itoa(v.Through) + " closed."
+		evs, err := s.store.Events(r.Context(), ws.ID)
+		if err != nil {
+			return err
+		}
+		if addedAfterClose(evs, q.ID, v.Through) {
+			v.Note = addedAfterNote(v.Through)
+		}
 		return nil
 	}
 	id := "room-q" + strconv.FormatInt(q.ID, 10)

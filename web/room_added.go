@@ -1,0 +1,43 @@
+package web
+
+import (
+	"encoding/json"
+	"strconv"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// addedAfterClose reports whether question qID was added to the workshop
+// after round `round` last closed (its question_added event follows that
+// round's last round_closed event in evs, oldest first), so that nobody
+// could have answered it by that close. A question added mid-workshop
+// had the room say "Nobody had answered this question when round 1
+// closed." of a question that did not exist then, and count its first
+// answers in round 2 as experts who had "revised" it.
+func addedAfterClose(evs []workshop.Event, qID int64, round int) bool {
+	closed, added := -1, -1
+	for i, e := range evs {
+		switch e.Kind {
+		case workshop.EventRoundClosed:
+			var d struct {
+				Round int `json:"round"`
+			}
+			if json.Unmarshal([]byte(e.Detail), &d) == nil && d.Round == round {
+				closed = i
+			}
+		case workshop.EventQuestionAdded:
+			if e.QuestionID == qID {
+				added = i
+			}
+		}
+	}
+	return closed >= 0 && added > closed
+}
+
+// addedAfterNote is the room's note over a question added after round
+// `round` closed, which nobody answered in that round or before.
+func addedAfterNote(round int) string {
+	r := strconv.Itoa(round)
+	return "This question was added after round " + r + " closed, so nobody had answered it then. " +
+		"The panel's answers appear here when round " + strconv.Itoa(round+1) + " closes."
+}

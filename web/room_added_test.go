@@ -1,0 +1,65 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// A question added in round 2: the room does not say nobody had answered
+// it when round 1 closed, as if it had been asked then, but that it was
+// added after; and its first answers in round 2 are counted as answers,
+// not revisions. A question asked from round 1 keeps both sentences.
+func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	wp := workshopPath(ws.ID)
+	// A question nobody answers in round 1, asked from its start.
+	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Asked in round 1 (invented)?"}, "quantity": {"spares used"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add a question: %d %s", res.StatusCode, body)
+	}
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d", res.StatusCode)
+	}
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"open"}, "reason": {"Round 2 (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("open: %d", res.StatusCode)
+	}
+	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Added in round 2 (invented)?"}, "quantity": {"boards swapped"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add a question: %d %s", res.StatusCode, body)
+	}
+	all, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	early, late := all[len(all)-2], all[len(all)-1]
+	answer := url.Values{"values[0]": {"0.01"}, "values[1]": {"0.05"}, "values[2]": {"0.2"}}
+	for _, q := range []int64{early.ID, late.ID, qs[0].ID} {
+		if res, _ := h.post(links[0].Path+"q/"+strconv.FormatInt(q, 10)+"/save", answer); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("Ines answers question %d: %d", q, res.StatusCode)
+		}
+	}
+	for _, c := range []struct {
+		q         int64
+		want, not string
+	}{
+		{late.ID, "This question was added after round 1 closed, so nobody had answered it then. The panel&#39;s answers appear here when round 2 closes.", "Nobody had answered"},
+		{late.ID, "1 of 4 experts has answered this question in round 2 so far.", "revised"},
+		{early.ID, "Nobody had answered this question when round 1 closed.", "was added after"},
+		{early.ID, "1 of 4 experts has revised this question in round 2 so far.", "has answered this question"},
+		{qs[0].ID, "1 of 4 experts has revised this question in round 2 so far.", "was added after"},
+	} {
+		_, body := h.get(roomPath(ws.ID, c.q))
+		if !strings.Contains(body, c.want) || strings.Contains(body, c.not) {
+			t.Errorf("room of question %d: want %q, not %q", c.q, c.want, c.not)
+		}
+	}
+	// Round 2 closed: the question's answers are shown as any other's.
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close round 2: %d", res.StatusCode)
+	}
+	if _, body := h.get(roomPath(ws.ID, late.ID)); !strings.Contains(body, "Shown: every expert") || strings.Contains(body, "was added after") {
+		t.Error("round 2 closed: the added question's room does not show its answers")
+	}
+}
