@@ -318,11 +318,32 @@ func weightsChanged(b *workshop.WeightBasis, set workshop.CalibrationSet, alpha 
 		what = append(what, "the scale a question's information is scored on")
 	}
 	type key struct{ expert, question int64 }
+	// The answers are compared where the experts and the questions are
+	// the same then and now: an expert revoked (or a question retired)
+	// takes their answers out of the scoring, which is said as the panel
+	// (or the questions) changing; it read "the experts' answers and the
+	// experts on the panel have changed" when nobody had answered anew.
+	active, scored := map[int64]bool{}, map[int64]bool{}
+	for _, e := range set.Experts {
+		active[e.ID] = true
+	}
+	for _, e := range b.Experts {
+		scored[e.ExpertID] = true
+	}
+	wasAsked := map[int64]bool{}
+	for _, bq := range b.Questions {
+		wasAsked[bq.QuestionID] = true
+	}
+	both := func(k key) bool {
+		return active[k.expert] && scored[k.expert] && wasAsked[k.question] && current[k.question].ID != 0
+	}
 	stored := map[key]int64{}
 	for _, a := range b.CalibrationAnswers {
-		stored[key{a.ExpertID, a.QuestionID}] = a.RevisionID
+		if k := (key{a.ExpertID, a.QuestionID}); both(k) {
+			stored[k] = a.RevisionID
+		}
 	}
-	answers := len(b.CalibrationAnswers) != len(set.Assessments)
+	answers, compared := false, 0
 	for i, a := range set.Assessments {
 		var k key
 		for _, e := range set.Experts {
@@ -335,18 +356,18 @@ func weightsChanged(b *workshop.WeightBasis, set workshop.CalibrationSet, alpha 
 				k.question = q.ID
 			}
 		}
+		if !both(k) {
+			continue
+		}
+		compared++
 		if r, ok := stored[k]; !ok || r != set.RevisionIDs[i] {
 			answers = true
 		}
 	}
-	if answers {
+	if answers || compared != len(stored) {
 		what = append(what, "the experts' answers")
 	}
 	experts := len(b.Experts) != len(set.Experts)
-	active := map[int64]bool{}
-	for _, e := range set.Experts {
-		active[e.ID] = true
-	}
 	for _, e := range b.Experts {
 		experts = experts || !active[e.ExpertID]
 	}

@@ -3,6 +3,7 @@ package web
 import (
 	"net/http"
 	"net/url"
+	"strconv"
 	"strings"
 	"testing"
 )
@@ -37,4 +38,38 @@ func TestWeightsInForceSayWhatChanged(t *testing.T) {
 	if strings.Contains(body, "the answers or the cut-off") {
 		t.Error("the page still blames the answers or the cut-off")
 	}
+}
+
+// An expert revoked after the performance weights were set takes their
+// answers out of the scoring: the panel changed, not the answers. The
+// page said "the experts' answers and the experts on the panel have
+// changed" when nobody had answered anew. (The demo's weights give Ines
+// Varga all of the weight, so without her the scores give others.)
+func TestWeightsInForceAfterARevokeSayThePanelChanged(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	for _, q := range qs[1:] {
+		if res, body := h.post(calibrationPath(ws.ID)+"/q/"+strconv.FormatInt(q.ID, 10),
+			url.Values{"true_value": {strconv.FormatFloat(*q.TrueValue, 'g', -1, 64)}, "reveal": {"on"}, "reason": {"Shown (invented)."}}); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("reveal Q%d: %d %s", q.Position, res.StatusCode, body)
+		}
+	}
+	if res, _ := h.post(calibrationPath(ws.ID)+"/weights", url.Values{"scheme": {"performance"}, "reason": {"Scores are in (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("performance weights: %d", res.StatusCode)
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, es[0].ID, "revoke"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d", res.StatusCode)
+	}
+	_, body := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(body, "They differ from the performance weights shown above (the experts on the panel have changed since they were set).") {
+		t.Errorf("after a revoke the page does not say the panel alone changed:\n%s", clipAround(body, "performance weights set"))
+	}
+}
+
+// clipAround is the 300 bytes of body from the first s, or "" without it.
+func clipAround(body, s string) string {
+	i := strings.Index(body, s)
+	if i < 0 {
+		return ""
+	}
+	return body[i:min(len(body), i+300)]
 }
