@@ -9,8 +9,8 @@ import (
 
 // Custom weights name the experts active when they were set. An expert
 // added later, or given their access back, has weight 0 under them; the
-// panel and the report say so, by name, until the weights are set again,
-// instead of a bare "0%" in the panel's table.
+// panel, the report and the calibration page say so, by name, until the
+// weights are set again, instead of a bare "0%" in the panel's table.
 func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
 	h, ws, qs, es, _ := seeded(t)
 	qp := questionPath(ws.ID, qs[0].ID)
@@ -24,10 +24,11 @@ func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
 			t.Fatalf("set weights: %d %s", res.StatusCode, body)
 		}
 	}
-	notices := func() (panel, report string) {
+	notices := func() (panel, report, calibration string) {
 		t.Helper()
 		_, p := h.get(qp)
 		_, r := h.get(workshopPath(ws.ID) + "/report")
+		_, c := h.get(calibrationPath(ws.ID))
 		pick := func(body string) string {
 			i := strings.Index(body, "These weights were set before")
 			if i < 0 {
@@ -35,19 +36,19 @@ func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
 			}
 			return body[i : i+strings.Index(body[i:], "<")]
 		}
-		return pick(p), pick(r)
+		return pick(p), pick(r), pick(c)
 	}
 	// Tomas is revoked when the weights are set, so they leave him out.
 	if res, _ := h.post(expertActionPath(ws.ID, es[1].ID, "revoke"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("revoke: %d", res.StatusCode)
 	}
 	setWeights(map[int64]string{es[0].ID: "2", es[2].ID: "1", es[3].ID: "1"})
-	if p, r := notices(); p != "" || r != "" {
-		t.Fatalf("weights naming every active expert: %q, %q", p, r)
+	if p, r, c := notices(); p != "" || r != "" || c != "" {
+		t.Fatalf("weights naming every active expert: %q, %q, %q", p, r, c)
 	}
 	h.addExpert(ws, "Lena Okafor (invented)")
-	p, r := notices()
-	for _, got := range []string{p, r} {
+	p, r, c := notices()
+	for _, got := range []string{p, r, c} {
 		if !strings.Contains(got, "before Lena Okafor (invented) joined the panel or had access back, so they give Lena Okafor (invented) weight 0") {
 			t.Errorf("a late expert: %q", got)
 		}
@@ -55,8 +56,8 @@ func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
 	if res, _ := h.post(expertActionPath(ws.ID, es[1].ID, "reissue"), url.Values{"confirm": {"yes"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("reissue: %d", res.StatusCode)
 	}
-	p, r = notices()
-	for _, got := range []string{p, r} {
+	p, r, c = notices()
+	for _, got := range []string{p, r, c} {
 		if !strings.Contains(got, "before Tomas Lindqvist and Lena Okafor (invented) joined the panel or had access back, so they give each of them weight 0") {
 			t.Errorf("a late expert and one given access back: %q", got)
 		}
@@ -69,7 +70,7 @@ func TestCustomWeightsSayWhomTheyLeaveOut(t *testing.T) {
 	}
 	ids[all[len(all)-1].ID] = "0"
 	setWeights(ids)
-	if p, r := notices(); p != "" || r != "" {
-		t.Fatalf("weights set again: %q, %q", p, r)
+	if p, r, c := notices(); p != "" || r != "" || c != "" {
+		t.Fatalf("weights set again: %q, %q, %q", p, r, c)
 	}
 }
