@@ -232,6 +232,14 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		if err != nil {
 			return fmt.Errorf("store: agree prior: %w", err)
 		}
+		// Only a target question in use takes a prior.
+		q, err := questionInTx(ctx, tx, p.QuestionID)
+		if err != nil {
+			return err
+		}
+		if err := q.CheckTakesPrior(); err != nil {
+			return err
+		}
 		if open == 1 && !p.RoundOpen {
 			return fmt.Errorf("store: agree prior in round %d: %w", round, workshop.ErrRoundStillOpen)
 		}

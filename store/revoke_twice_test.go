@@ -44,3 +44,25 @@ func TestRevokeTwiceIsRefused(t *testing.T) {
 		t.Fatalf("%d revocations recorded after a new link and a revoke, want 2", n)
 	}
 }
+
+// A retired question takes no agreed prior (workshop.CheckTakesPrior),
+// checked in the agreement's transaction; brought back, it takes one.
+func TestRetiredQuestionTakesNoPrior(t *testing.T) {
+	db := newDB(t)
+	p := seed(t, db)
+	ctx := context.Background()
+	q := p.qs[0]
+	must(t, db.SetQuestionRetired(ctx, q.ID, true, "asked twice"))
+	prior := workshop.AgreedPrior{QuestionID: q.ID, Source: workshop.PriorFromConsensus, Rationale: "agreed",
+		Dist: elicit.Unit(elicit.Beta{Alpha: 2, Beta: 20}), RoundOpen: true}
+	err := db.AgreePrior(ctx, &prior)
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) || ie.Rule != workshop.RuleRetiredNoPrior {
+		t.Fatalf("agreeing a retired question's prior: %v, want %q", err, workshop.RuleRetiredNoPrior)
+	}
+	if ps, _ := db.AgreedPriors(ctx, p.w.ID); len(ps) != 0 {
+		t.Fatalf("%d priors recorded", len(ps))
+	}
+	must(t, db.SetQuestionRetired(ctx, q.ID, false, "needed after all"))
+	must(t, db.AgreePrior(ctx, &prior))
+}

@@ -92,8 +92,10 @@ func (s *Server) agreePrior(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		if isInputError(err) {
-			// A prior the recorded data could not update (CheckPriorUpdate).
-			f.Fail(err, nil)
+			// A prior the recorded data could not update (CheckPriorUpdate),
+			// or a question retired since the page was drawn
+			// (CheckTakesPrior), said beside the choice of source.
+			f.Fail(err, map[string]string{"question": "source"})
 			s.showPanelWith(w, r, http.StatusUnprocessableEntity, ws, q, panelForms{agree: f})
 			return
 		}

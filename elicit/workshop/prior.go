@@ -180,3 +180,19 @@ func sameWeights(a, b Weights) bool {
 	}
 	return a.Scheme == b.Scheme && maps.Equal(a.ByExpert, b.ByExpert)
 }
+
+// RuleRetiredNoPrior refuses a prior agreed for a retired question.
+const RuleRetiredNoPrior elicit.Rule = "a retired question takes no agreed prior: bring it back first"
+
+// CheckTakesPrior reports whether a prior may be agreed for q: not a
+// retired question, which is out of the workshop (hidden from the
+// experts, left out of the report's table of agreed priors, and not
+// offered on the quick priors page). The question's own agree form took
+// one, recorded for a question the workshop had set aside. The error
+// names the field "question".
+func (q Question) CheckTakesPrior() error {
+	if q.Retired {
+		return inputErr("question", RuleRetiredNoPrior, "Q%d", q.Position)
+	}
+	return nil
+}
