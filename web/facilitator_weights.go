@@ -82,10 +82,9 @@ func unweighedWords(es []workshop.Expert) string {
 		names[i] = e.Name
 	}
 	if len(es) == 1 {
-		n := names[0]
-		return "These weights were set before " + n + " joined the panel or had access back, so they give " + n +
-			" weight 0: " + n + "'s judgements count for nothing in the pools. Set the weights again to give " + n + " a share."
+		return names[0] + " joined the panel, or had access back, after these weights were set, so has weight 0 under them: " +
+			"their judgements count for nothing in the pools. Set the weights again to give " + names[0] + " a share."
 	}
-	return "These weights were set before " + wordList(names) + " joined the panel or had access back, so they give each of them" +
-		" weight 0: their judgements count for nothing in the pools. Set the weights again to give them a share."
+	return wordList(names) + " joined the panel, or had access back, after these weights were set, so each has weight 0 under them: " +
+		"their judgements count for nothing in the pools. Set the weights again to give them a share."
 }
