@@ -7,6 +7,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // A question added in round 2: the room does not say nobody had answered
@@ -61,5 +63,29 @@ func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
 	}
 	if _, body := h.get(roomPath(ws.ID, late.ID)); !strings.Contains(body, "Shown: every expert") || strings.Contains(body, "was added after") {
 		t.Error("round 2 closed: the added question's room does not show its answers")
+	}
+}
+
+// addedAfterClose reads the last close of the round: a question added
+// while round 1 was closed, then answered in round 1 reopened and closed
+// again, existed at that close.
+func TestAddedAfterCloseReadsTheLastClose(t *testing.T) {
+	closed := func(r int) workshop.Event {
+		return workshop.Event{Kind: workshop.EventRoundClosed, Detail: `{"round":` + strconv.Itoa(r) + `}`}
+	}
+	added := workshop.Event{Kind: workshop.EventQuestionAdded, QuestionID: 7}
+	for _, c := range []struct {
+		evs  []workshop.Event
+		want bool
+	}{
+		{[]workshop.Event{closed(1), added}, true},
+		{[]workshop.Event{added, closed(1)}, false},
+		{[]workshop.Event{closed(1), added, {Kind: workshop.EventRoundReopened, Detail: `{"round":1}`}, closed(1)}, false},
+		{[]workshop.Event{added}, false},
+		{[]workshop.Event{closed(2), added}, false}, // round 1 never closed: not this rule's to say
+	} {
+		if got := addedAfterClose(c.evs, 7, 1); got != c.want {
+			t.Errorf("%v: %v, want %v", c.evs, got, c.want)
+		}
 	}
 }
