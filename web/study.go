@@ -64,18 +64,14 @@ type studyView struct {
 	// AgreedPool names the pool a prior from the pool came from by its
 	// weights (pooledBy), as the question's panel does; "" when not known.
 	AgreedPool string
-	// PoolChanged says how the pool a prior from the pool was agreed
-	// from has changed since (poolChangeWords), "" when it has not: the
-	// study takes the prior as agreed.
-	PoolChanged string
-	Proportion  bool
-	Data        []workshop.StudyData // this question's batches, oldest first
-	DataForm    *Form
-	Update      *workshop.Update
-	UpdateErr   string
-	UpdatePic   chart.PanelView
-	Plan        planView
-	Planned     *sensitivityBlock // posteriors at the planned study's typical outcome
+	Proportion bool
+	Data       []workshop.StudyData // this question's batches, oldest first
+	DataForm   *Form
+	Update     *workshop.Update
+	UpdateErr  string
+	UpdatePic  chart.PanelView
+	Plan       planView
+	Planned    *sensitivityBlock // posteriors at the planned study's typical outcome
 	// PlannedOutcome is that typical outcome (successes in the planned
 	// trials); when the plan is under the posterior after the recorded
 	// data, Planned updates each prior with the data and it together.
@@ -86,6 +82,11 @@ type studyView struct {
 	PlannedOmitted, ObservedOmitted string
 	Skipped                         []string // priors left out of the comparison, and why
 	Caveats                         []string // pools whose single Beta stands in for them only roughly
+
+	// PoolChanged says how the pool a prior from the pool was agreed
+	// from has changed since (poolChangeWords), "" when it has not: the
+	// study takes the prior as agreed.
+	PoolChanged string
 }
 
 // priorChoice is one prior the study can be planned under.
