@@ -6,6 +6,7 @@ import (
 	"net/http"
 	"net/url"
 	"regexp"
+	"slices"
 	"strings"
 	"testing"
 
@@ -683,6 +684,21 @@ func TestOverviewCarriesEarlierAnswers(t *testing.T) {
 		if !strings.Contains(body, w) {
 			t.Errorf("round 2 roster lacks %q", w)
 		}
+	}
+	// Priya's first answer to Q1, in round 2, revises nothing: it was
+	// counted and named as a revision.
+	priya := es[slices.IndexFunc(es, func(e workshop.Expert) bool { return strings.HasPrefix(e.Name, "Priya") })]
+	first := workshop.Revision{QuestionID: qs[0].ID, ExpertID: priya.ID, Reason: "Joined the question late (invented).",
+		Answer: workshop.Answer{Values: []float64{0.02, 0.05, 0.12}}}
+	if err := h.db.SaveRevision(context.Background(), &first); err != nil {
+		t.Fatalf("Priya's first answer in round 2: %v", err)
+	}
+	_, body = h.get(wp)
+	if cells := strings.Split(row(body, "Priya Raman"), "<td")[1:]; len(cells) == 0 || !strings.Contains(cells[0], "first answered in round 2 (1 save)") {
+		t.Errorf("round 2, Priya, Q1: want %q, row %v", "first answered in round 2 (1 save)", cells)
+	}
+	if w := "of 6 have a current answer; 0 revised this round, 1 first answered this round"; !strings.Contains(body, w) {
+		t.Errorf("round 2 roster lacks %q", w)
 	}
 }
 

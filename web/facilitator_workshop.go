@@ -149,6 +149,10 @@ func (s *Server) showOverview(w http.ResponseWriter, r *http.Request, status int
 type answerState struct {
 	Round int // round of the latest revision
 	Saves int // revisions saved in the workshop's current round
+	// Earlier marks an answer saved in an earlier round: saves in this
+	// round then revise it; without one they are the expert's first
+	// answer (an expert who joined late, or skipped the question).
+	Earlier bool
 }
 
 // answerStates reads revisions (oldest first) into each expert's answer
@@ -163,6 +167,8 @@ func answerStates(round int, revs []workshop.Revision) map[int64]map[int64]answe
 		st.Round = max(st.Round, rv.Round)
 		if rv.Round == round {
 			st.Saves++
+		} else if rv.Round < round {
+			st.Earlier = true
 		}
 		m[rv.ExpertID][rv.QuestionID] = st
 	}
