@@ -159,26 +159,50 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		for _, e := range experts {
 			revoked[e.ID] = e.Revoked
 		}
-		answered := 0
+		// From round 2 a save revises an answer from an earlier round,
+		// or is the expert's first (an expert who joined late or had
+		// skipped the question): first answers were counted as
+		// revisions.
+		had := map[int64]bool{}
+		if ws.Round > 1 {
+			earlier, err := s.store.LatestRevisions(r.Context(), q.ID, ws.Round-1)
+			if err != nil {
+				return err
+			}
+			for _, rv := range earlier {
+				had[rv.ExpertID] = true
+			}
+		}
+		revised, first := 0, 0
 		for _, rv := range latest {
-			if rv.Round == ws.Round && !revoked[rv.ExpertID] {
-				answered++
+			if rv.Round != ws.Round || revoked[rv.ExpertID] {
+				continue
+			}
+			if had[rv.ExpertID] {
+				revised++
+			} else {
+				first++
 			}
 		}
 		verb := "answered"
-		if ws.Round > 1 {
+		switch {
+		case ws.Round == 1, revised == 0 && first > 0:
+		case first > 0:
+			verb = "answered or revised"
+		case revised > 0:
 			verb = "revised"
-			// A question added since the last close has first answers
-			// in this round, not revisions.
+		default:
+			// Nobody yet: a question added since the last close has
+			// first answers to come in this round, not revisions.
 			evs, err := s.store.Events(r.Context(), ws.ID)
 			if err != nil {
 				return err
 			}
-			if addedAfterClose(evs, q.ID, ws.Round-1) {
-				verb = "answered"
+			if !addedAfterClose(evs, q.ID, ws.Round-1) {
+				verb = "revised"
 			}
 		}
-		v.Progress = roomProgress(answered, active, verb, ws.Round)
+		v.Progress = roomProgress(revised+first, active, verb, ws.Round)
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
 		if ws.Archived {
@@ -397,7 +421,8 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 }
 
 // roomProgress says how many of the active experts have answered (or,
-// from round 2, revised) the question in the open round: "2 of 4 experts
+// from round 2, revised, or "answered or revised" where some of the
+// round's saves are first answers) the question in the open round: "2 of 4 experts
 // have revised this question in round 2 so far", "1 of 4 experts has …",
 // and "No expert has revised this question in round 2 yet." where "0 of 4
 // experts have" read as an empty table.

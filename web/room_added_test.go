@@ -14,7 +14,9 @@ import (
 // A question added in round 2: the room does not say nobody had answered
 // it when round 1 closed, as if it had been asked then, but that it was
 // added after; and its first answers in round 2 are counted as answers,
-// not revisions. A question asked from round 1 keeps both sentences.
+// not revisions. A question asked from round 1 keeps the first sentence;
+// its first answers in round 2 are answers too, and where some of the
+// round's saves revise and some are first answers, both are said.
 func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
 	h, ws, qs, _, links := seeded(t)
 	wp := workshopPath(ws.ID)
@@ -49,13 +51,21 @@ func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
 		{late.ID, "This question was added after round 1 closed, so nobody had answered it then. The panel&#39;s answers appear here when round 2 closes.", "Nobody had answered"},
 		{late.ID, "1 of 4 experts has answered this question in round 2 so far.", "revised"},
 		{early.ID, "Nobody had answered this question when round 1 closed.", "was added after"},
-		{early.ID, "1 of 4 experts has revised this question in round 2 so far.", "has answered this question"},
+		{early.ID, "1 of 4 experts has answered this question in round 2 so far.", "revised"},
 		{qs[0].ID, "1 of 4 experts has revised this question in round 2 so far.", "was added after"},
 	} {
 		_, body := h.get(roomPath(ws.ID, c.q))
 		if !strings.Contains(body, c.want) || strings.Contains(body, c.not) {
 			t.Errorf("room of question %d: want %q, not %q", c.q, c.want, c.not)
 		}
+	}
+	// Priya (links[2]) had not answered Q1 in round 1: her first answer
+	// joins Ines's revision.
+	if res, _ := h.post(links[2].Path+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save", answer); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("Priya answers Q1: %d", res.StatusCode)
+	}
+	if _, body := h.get(roomPath(ws.ID, qs[0].ID)); !strings.Contains(body, "2 of 4 experts have answered or revised this question in round 2 so far.") {
+		t.Error("room of Q1: a first answer and a revision in round 2 are not both said")
 	}
 	// Round 2 closed: the question's answers are shown as any other's.
 	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
