@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"encoding/json"
+	"errors"
 	"math"
 	"os"
 	"os/exec"
@@ -774,5 +775,30 @@ func TestFlagErrorsKeepTerminalCodesOut(t *testing.T) {
 		if code != exitBadInput || strings.ContainsAny(errs, "\x1b\a") {
 			t.Errorf("%q: exit %d, stderr %q", arg, code, errs)
 		}
+	}
+}
+
+// TestBadInputReadsOneWay: every bad input reads "parley CMD: bad input:
+// FIELD: RULE", whether a flag or the statistics refused it. The
+// statistics' refusals began "elicit: ", the name of a package inside
+// Parley ("parley update: elicit: alpha: must be greater than 0"), beside
+// the flags' "bad input: ". A failure that is no bad input (exit 1) is
+// not called one, and loses the package's name too.
+func TestBadInputReadsOneWay(t *testing.T) {
+	for _, args := range [][]string{
+		{"update", "--alpha", "-1", "--beta", "2", "--successes", "1", "--trials", "3"},
+		{"fit", "--probs", "0.5,0.9", "--values", "0.3,0.2"},
+		{"prior", "--mean", "0.5"},
+		{"fit", "--bogus"},
+	} {
+		code, out, errOut := runCLI(t, "", args...)
+		want := "parley " + args[0] + ": bad input: "
+		if code != exitBadInput || out != "" || !strings.HasPrefix(errOut, want) || strings.Contains(errOut, "elicit") {
+			t.Errorf("%v: exit %d, stderr %q; want exit 2 and a line starting %q, without the package's name", args, code, errOut, want)
+		}
+	}
+	var buf strings.Builder
+	if code := fail(&buf, "export", errors.New("elicit: the disk is full")); code != exitFailure || buf.String() != "parley export: the disk is full\n" {
+		t.Errorf("a failure: exit %d, %q; want exit 1, not called bad input", code, buf.String())
 	}
 }

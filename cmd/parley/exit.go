@@ -5,6 +5,7 @@ import (
 	"flag"
 	"fmt"
 	"io"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
 )
@@ -24,14 +25,29 @@ func newFlags(name string, stderr io.Writer) *flag.FlagSet {
 }
 
 // fail prints err as one line on stderr and returns the exit status: 2 for
-// bad input (an *elicit.InputError or a flag error), 1 otherwise.
+// bad input (an *elicit.InputError or a flag error), 1 otherwise. Every
+// bad input reads "parley CMD: bad input: FIELD: RULE": elicit's errors
+// began "elicit: ", the name of a package inside Parley, beside the flag
+// errors' "bad input: ".
 func fail(stderr io.Writer, cmd string, err error) int {
-	fmt.Fprintf(stderr, "parley %s: %v\n", cmd, err)
 	var ie *elicit.InputError
-	if errors.As(err, &ie) || errors.Is(err, errBadInput) {
+	bad := errors.As(err, &ie) || errors.Is(err, errBadInput)
+	msg := errText(err)
+	if bad && !errors.Is(err, errBadInput) {
+		msg = errBadInput.Error() + ": " + msg
+	}
+	fmt.Fprintf(stderr, "parley %s: %s\n", cmd, msg)
+	if bad {
 		return exitBadInput
 	}
 	return exitFailure
+}
+
+// errText is err's message for a terminal, without the "elicit: " its
+// domain errors begin with: a package's name means nothing to the
+// person at the terminal.
+func errText(err error) string {
+	return strings.TrimPrefix(err.Error(), "elicit: ")
 }
 
 // errBadInput marks command-line input errors that are not elicit's own.

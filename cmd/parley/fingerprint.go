@@ -116,7 +116,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 		}
 		fmt.Fprintf(stdout, "now, after all %d facts: %s (in full %s)\n", len(c.Links), c.Head().Short(), c.Head().Hex())
 		if own != nil {
-			fmt.Fprintf(stderr, "parley fingerprint: %s: %v\n", disagrees, own)
+			fmt.Fprintf(stderr, "parley fingerprint: %s: %s\n", disagrees, errText(own))
 			return exitFailure
 		}
 		return exitOK
@@ -125,7 +125,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	if !found {
 		msg := fmt.Sprintf("%s is not a fingerprint of this record at any point: either the record was changed after the value was noted, or the value was noted from another workshop's record", shortOf(noted))
 		if own != nil {
-			msg += fmt.Sprintf("; also, %s: %v", disagrees, own)
+			msg += fmt.Sprintf("; also, %s: %s", disagrees, errText(own))
 		}
 		return fail(stderr, "fingerprint", errors.New(msg))
 	}
@@ -137,7 +137,7 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 			shortOf(noted), factWords(l), when(l), i+1, len(c.Links))
 	}
 	if own != nil {
-		fmt.Fprintf(stderr, "parley fingerprint: but %s: %v\n", disagrees, own)
+		fmt.Fprintf(stderr, "parley fingerprint: but %s: %s\n", disagrees, errText(own))
 	}
 	return exitOK
 }

@@ -299,7 +299,7 @@ func TestFingerprintQuestionChangedWithoutAnEvent(t *testing.T) {
 	}
 	code, out, errs := run("fingerprint", "--in", file)
 	if code != exitFailure || !strings.Contains(out, "after round 1 closed") ||
-		!strings.Contains(errs, "a question, an expert or a withheld reason is not what its events in the decision log give: elicit: questions[0].upper: "+string(record.RuleDefinitionMismatch)) {
+		!strings.Contains(errs, "a question, an expert or a withheld reason is not what its events in the decision log give: questions[0].upper: "+string(record.RuleDefinitionMismatch)) {
 		t.Errorf("fingerprint: exit %d, %q %q", code, out, errs)
 	}
 	code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", file)
@@ -342,7 +342,7 @@ func TestFingerprintAgreedPriorChanged(t *testing.T) {
 		forged := filepath.Join(t.TempDir(), "forged.json")
 		check(t, os.WriteFile(forged, b, 0o644))
 		code, _, errs := run("fingerprint", "--in", forged)
-		if code != exitFailure || !strings.Contains(errs, "the weights or an agreed prior in force are not the last of their history: elicit: "+c.field+": ") {
+		if code != exitFailure || !strings.Contains(errs, "the weights or an agreed prior in force are not the last of their history: "+c.field+": ") {
 			t.Errorf("%s: fingerprint: exit %d, %q", c.name, code, errs)
 		}
 		code, _, errs = run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", forged)
@@ -395,7 +395,7 @@ func TestFingerprintAnswerAddedToAClosedRound(t *testing.T) {
 	}
 	want := "revisions[4].round: " + string(record.RuleSavedInItsRound)
 	code, out, errs := run("fingerprint", "--check", noted, "--in", forged)
-	if code != exitOK || !strings.Contains(out, noted+" matches") || !strings.Contains(errs, "parley fingerprint: but an answer comes after its round closed (it was added later): elicit: "+want) {
+	if code != exitOK || !strings.Contains(out, noted+" matches") || !strings.Contains(errs, "parley fingerprint: but an answer comes after its round closed (it was added later): "+want) {
 		t.Errorf("fingerprint --check of round 1's value: exit %d, %q %q, want the match and, on stderr, %q", code, out, errs, want)
 	}
 	if code, _, errs := run("fingerprint", "--in", forged); code != exitFailure || !strings.Contains(errs, want) {
@@ -479,7 +479,7 @@ func TestFingerprintDecisionWithoutItsLogEntry(t *testing.T) {
 			t.Fatalf("%s: export: %s", c.name, errs)
 		}
 		code, _, errs := run("fingerprint", "--in", file)
-		if code != exitFailure || !strings.Contains(errs, "a decision is in the record without its entry in the decision log (it was added later): elicit: "+c.want) {
+		if code != exitFailure || !strings.Contains(errs, "a decision is in the record without its entry in the decision log (it was added later): "+c.want) {
 			t.Errorf("%s: fingerprint: exit %d, %q, want exit 1 and %q", c.name, code, errs, c.want)
 		}
 	}

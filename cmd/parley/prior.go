@@ -239,7 +239,7 @@ func priorCommand(a priorArgs) (priorOutput, error) {
 			out.Alternative = &priorAlternative{Method: string(other.Method), Alpha: oc.Dist.Alpha, Beta: oc.Dist.Beta.Beta, CoverageAchieved: oc.CoverageAchieved}
 			nums = append(nums, oc.Dist.Alpha, oc.Dist.Beta.Beta, oc.CoverageAchieved)
 		} else {
-			out.Warnings = append(out.Warnings, fmt.Sprintf("the %s method gives no prior for this interval: %v", other.Method, strings.TrimPrefix(err.Error(), "elicit: ")))
+			out.Warnings = append(out.Warnings, fmt.Sprintf("the %s method gives no prior for this interval: %v", other.Method, errText(err)))
 			out.WarningCode = append(out.WarningCode, "no_alternative")
 		}
 	}
