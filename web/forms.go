@@ -110,6 +110,18 @@ func (f *Form) Fail(err error, aliases map[string]string) {
 	f.set("", ie.Field+": "+msg)
 }
 
+// fieldsOK reports whether none of the named fields has an error: a
+// check across them (a domain type's Validate) then runs whatever is
+// wrong elsewhere on the form, so that every mistake is marked at once.
+func (f *Form) fieldsOK(names ...string) bool {
+	for _, n := range names {
+		if f.Error(n) != "" {
+			return false
+		}
+	}
+	return true
+}
+
 // failWithBoxes is Fail for a form with checkboxes, which a browser does
 // not send when they are unticked: a refusal naming one of boxes is said
 // beside it, not above the form in elicit's words ("calibration: …").

@@ -427,7 +427,10 @@ func planStudy(ctx context.Context, p planView) planView {
 			Direction:  elicit.Direction(f.Choice("direction", "", string(elicit.DirectionBelow), string(elicit.DirectionAbove))),
 			Confidence: fractionOf(f, "confidence"),
 		}
-		if f.OK() {
+		// Checked whatever else is wrong, so that every mistake is marked
+		// at once: a threshold of 1.5 was marked only once the missing
+		// trials were put right.
+		if f.fieldsOK("threshold", "confidence", "direction") {
 			f.Fail(g.Validate(), nil)
 		}
 		p.Goal = &g
@@ -460,7 +463,7 @@ func planStudy(ctx context.Context, p planView) planView {
 		if strings.TrimSpace(f.Value("woc_trim")) != "" {
 			g.Trim = fractionOf(f, "woc_trim")
 		}
-		if f.OK() {
+		if f.fieldsOK("length", "level", "criterion", "interval", "woc_trim") {
 			f.Fail(g.Validate(), map[string]string{"trim": "woc_trim"})
 		}
 		p.Size = &g

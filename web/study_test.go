@@ -187,6 +187,14 @@ func TestStudyPlanRefusesBadInput(t *testing.T) {
 	if res, _ := h.get(sp + "?trials=5&trials=6"); res.StatusCode != http.StatusBadRequest {
 		t.Errorf("trials twice: %d", res.StatusCode)
 	}
+	// Every mistake is marked at once: the threshold and the length
+	// were marked only once the trials were put right.
+	res, body := h.get(sp + "?trials=0&threshold=1.5&confidence=0.9&length=0&level=0.95")
+	for _, field := range []string{"trials", "threshold", "length"} {
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, field) {
+			t.Errorf("three mistakes at once: status %d, message beside %q: %v", res.StatusCode, field, hasFieldError(body, field))
+		}
+	}
 }
 
 // planReference reads testdata/scipy/plan_reference.csv (SciPy's
