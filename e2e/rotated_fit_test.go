@@ -14,15 +14,18 @@ import (
 // on one line, and at those widths its column was narrower than the
 // table: the page scrolled sideways by 44 px at 844 px, and the picture,
 // in three fifths of the width, drew its labels at 8 to 10.5 px. Up to
-// 60rem the table now stands under the picture, as on a phone held
-// upright; wider, its column is never narrower than the table.
+// 68rem the table now stands under the picture, as on a phone held
+// upright; wider, its column is never narrower than the table. A tablet
+// on its side, or a 1024×768 projector, drew the labels at 10.8 px with
+// the table beside the picture up to 60rem; they are at least 11 px from
+// 68rem (1089 px) up.
 func TestFitTableFitsAPhoneOnItsSide(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	carmen := br.person("Carmen (phone on its side)")
 	q1 := g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[0].ID, 10)
-	for _, size := range [][2]int64{{844, 390}, {915, 412}, {932, 430}} {
+	for _, size := range [][2]int64{{844, 390}, {915, 412}, {932, 430}, {1024, 768}, {1040, 800}, {1088, 800}, {1089, 800}, {1120, 800}} {
 		carmen.viewport(size[0], size[1], true)
 		carmen.open(q1)
 		carmen.do("choose percentages", chromedp.Click(chromedp.CSS(`#f-unit-percent`)))
