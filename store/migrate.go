@@ -85,6 +85,12 @@ func (db *DB) MigrateTo(ctx context.Context, version int) error {
 	if err != nil {
 		return err
 	}
+	if current > len(ms) {
+		return &NewerSchemaError{Database: db.path, Version: current, Latest: len(ms)}
+	}
+	if current >= version {
+		return nil
+	}
 	for _, m := range ms[current:version] {
 		err := db.write(ctx, func(tx *sql.Tx) error {
 			// Another process may have applied it since we looked.
@@ -109,6 +115,21 @@ func (db *DB) MigrateTo(ctx context.Context, version int) error {
 		}
 	}
 	return nil
+}
+
+// NewerSchemaError says the database was last migrated by a newer Parley:
+// its schema has steps this binary does not know, so it could misread or
+// damage what they hold. Nothing is changed.
+type NewerSchemaError struct {
+	Database string
+	Version  int // the database's schema version
+	Latest   int // the latest this binary knows
+}
+
+func (e *NewerSchemaError) Error() string {
+	return fmt.Sprintf("%s has schema version %d, and this Parley knows versions up to %d: "+
+		"a newer Parley has upgraded it; run that newer Parley on it (this one changed nothing)",
+		e.Database, e.Version, e.Latest)
 }
 
 // SchemaVersion is the highest migration applied, 0 for a new file.

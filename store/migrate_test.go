@@ -3,7 +3,10 @@ package store
 import (
 	"bytes"
 	"context"
+	"errors"
 	"path/filepath"
+	"strconv"
+	"strings"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -119,5 +122,42 @@ func TestMigrateToRejectsUnknownVersion(t *testing.T) {
 	db := newDB(t)
 	if err := db.MigrateTo(context.Background(), LatestVersion()+1); err == nil {
 		t.Fatal("migrating past the latest version succeeded")
+	}
+}
+
+// TestNewerSchemaIsRefused: a file a newer Parley has migrated (a version
+// past the embedded ones) is refused by Open with a *NewerSchemaError
+// naming both versions, and is left as it was; the slice of migrations to
+// apply ran from the file's version to the latest, backwards, and panicked.
+func TestNewerSchemaIsRefused(t *testing.T) {
+	ctx := context.Background()
+	path := filepath.Join(t.TempDir(), "newer.db")
+	db, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	latest := LatestVersion()
+	if _, err := db.w.ExecContext(ctx, `INSERT INTO schema_migrations (version, name, applied) VALUES (?, 'from_a_newer_parley.sql', '2030-01-01T00:00:00Z')`, latest+1); err != nil {
+		t.Fatal(err)
+	}
+	db.Close()
+
+	_, err = Open(path)
+	var ne *NewerSchemaError
+	if !errors.As(err, &ne) || ne.Version != latest+1 || ne.Latest != latest {
+		t.Fatalf("Open of a newer database: %v, want a *NewerSchemaError %d > %d", err, latest+1, latest)
+	}
+	for _, want := range []string{path, "schema version " + strconv.Itoa(latest+1), "newer Parley"} {
+		if !strings.Contains(err.Error(), want) {
+			t.Errorf("message %q does not say %q", err, want)
+		}
+	}
+	old, err := open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer old.Close()
+	if v, err := old.SchemaVersion(ctx); err != nil || v != latest+1 {
+		t.Fatalf("after the refusal, schema version %d, %v", v, err)
 	}
 }

@@ -731,3 +731,40 @@ func TestImportOfARecordWithoutItsWorkshop(t *testing.T) {
 		t.Error("a refused import created the database")
 	}
 }
+
+// TestStoreCommandsRefuseADatabaseFromANewerParley: a database a newer
+// Parley has upgraded (a schema version past this binary's) is refused by
+// every command that opens one, exit 1, naming both versions and saying
+// to run the newer Parley; the file keeps its version. Each command
+// panicked ("slice bounds out of range [14:13]"), exit 2 with a stack.
+func TestStoreCommandsRefuseADatabaseFromANewerParley(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	newer := store.LatestVersion() + 1
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	_, err = raw.Exec(`INSERT INTO schema_migrations (version, name, applied) VALUES (?, 'from_a_newer_parley.sql', '2030-01-01T00:00:00Z')`, newer)
+	check(t, err)
+	check(t, raw.Close())
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,\n")
+	says := "schema version " + strconv.Itoa(newer) + ", and this Parley knows versions up to " + strconv.Itoa(newer-1)
+	for _, args := range [][]string{
+		{"export", "--db", path, "--workshop", ws},
+		{"backup", "--db", path, "--out", filepath.Join(t.TempDir(), "copy.db")},
+		{"import-answers", "--db", path, "--workshop", ws, "--in", sheet},
+		{"facilitator-reset", "--db", path},
+	} {
+		code, out, errs := run(args...)
+		if code != exitFailure || out != "" || !strings.Contains(errs, says) || !strings.Contains(errs, "run that newer Parley") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 1 saying %q", args, code, out, errs, says)
+		}
+	}
+	raw, err = sql.Open("sqlite3", path)
+	check(t, err)
+	defer raw.Close()
+	var v int
+	check(t, raw.QueryRow(`SELECT MAX(version) FROM schema_migrations`).Scan(&v))
+	if v != newer {
+		t.Errorf("after the refusals the schema version is %d, want %d", v, newer)
+	}
+}
