@@ -46,6 +46,13 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	defer db.Close()
 	ctx := context.Background()
 	if err := db.Backup(ctx, *out); err != nil {
+		// A copy cut short (a full disk, a size limit) would stay behind
+		// as an empty or partial file under the name asked for, and the
+		// next attempt would be refused as "already exists". --out did
+		// not exist before (checked above), so what is there is ours.
+		if rmErr := os.Remove(*out); rmErr == nil || errors.Is(rmErr, os.ErrNotExist) {
+			err = fmt.Errorf("%w (nothing was kept at %s)", err, *out)
+		}
 		return fail(stderr, "backup", err)
 	}
 	verdict, err := checkCopy(ctx, *out)

@@ -9,6 +9,7 @@ import (
 	"errors"
 	"io"
 	"os"
+	"os/exec"
 	"path/filepath"
 	"strconv"
 	"strings"
@@ -766,5 +767,37 @@ func TestStoreCommandsRefuseADatabaseFromANewerParley(t *testing.T) {
 	check(t, raw.QueryRow(`SELECT MAX(version) FROM schema_migrations`).Scan(&v))
 	if v != newer {
 		t.Errorf("after the refusals the schema version is %d, want %d", v, newer)
+	}
+}
+
+// TestBackupCutShortLeavesNoFile: a backup that fails as it writes (here
+// a file-size limit of 64 KiB, as a full disk stops it) exits 1 saying
+// why and leaves nothing at --out, so that the next attempt, on a disk
+// with room, is not refused as "already exists"; an empty file was left.
+func TestBackupCutShortLeavesNoFile(t *testing.T) {
+	path, _, _ := cliWorkshop(t)
+	if fi, err := os.Stat(path); err != nil || fi.Size() <= 64<<10 {
+		t.Fatalf("the database must be over 64 KiB for the limit to cut its copy: %v, %v", fi.Size(), err)
+	}
+	bin := parleyBinary(t)
+	out := filepath.Join(t.TempDir(), "copy.db")
+	// The Go runtime ignores SIGXFSZ, so the write past the limit fails
+	// with EFBIG instead of ending the process.
+	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@"`, bin, "backup", "--db", path, "--out", out)
+	var errb bytes.Buffer
+	cmd.Stderr = &errb
+	err := cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitFailure {
+		t.Fatalf("backup under a 64 KiB limit: %v, stderr %q; want exit 1", err, errb.String())
+	}
+	if !strings.Contains(errb.String(), "nothing was kept at "+out) {
+		t.Errorf("stderr %q does not say nothing was kept", errb.String())
+	}
+	if _, err := os.Lstat(out); !errors.Is(err, os.ErrNotExist) {
+		t.Fatalf("a failed backup left %s behind (%v)", out, err)
+	}
+	if code, _, errs := run("backup", "--db", path, "--out", out); code != exitOK {
+		t.Fatalf("the next backup: exit %d, %s", code, errs)
 	}
 }
