@@ -84,6 +84,9 @@ func openExisting(path string) (*store.DB, error) {
 	if err := existingDatabase(path); err != nil {
 		return nil, err
 	}
+	if err := parleyDatabase(path); err != nil {
+		return nil, err
+	}
 	db, err := store.Open(path)
 	if err != nil {
 		return nil, notADatabase(path, fmt.Errorf("open %s: %w", path, err))
@@ -100,6 +103,19 @@ func notADatabase(path string, err error) error {
 		return badInput("db", "%s is not a Parley database (SQLite reads no database in it); give the file the server uses", path)
 	}
 	return err
+}
+
+// parleyDatabase refuses, as bad input naming --db, an existing file
+// that holds no Parley database (store.CheckParley): opening it would
+// write Parley's empty tables into another program's database, or into a
+// copy taken while the server ran without its journal, and the command
+// would then say only that the workshop is not there.
+func parleyDatabase(path string) error {
+	var np *store.NotParleyError
+	if err := store.CheckParley(path); errors.As(err, &np) {
+		return badInput("db", "%v", err)
+	}
+	return nil
 }
 
 // existingDatabase checks that --db names a file that exists: not a

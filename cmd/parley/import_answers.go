@@ -68,6 +68,9 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if err := existingDatabase(*dbPath); err != nil {
 		return fail(stderr, "import-answers", err)
 	}
+	if err := parleyDatabase(*dbPath); err != nil {
+		return fail(stderr, "import-answers", err)
+	}
 	db, err := store.Open(*dbPath)
 	if err != nil {
 		return fail(stderr, "import-answers", notADatabase(*dbPath, err))

@@ -801,3 +801,69 @@ func TestBackupCutShortLeavesNoFile(t *testing.T) {
 		t.Fatalf("the next backup: exit %d, %s", code, errs)
 	}
 }
+
+// TestStoreCommandsRefuseAFileWithoutParleysTables: a --db that SQLite
+// reads but that holds no Parley database is bad input naming --db, exit
+// 2, and the file is left byte for byte as it was, with no journal files
+// made beside it. The commands wrote Parley's empty tables into it and
+// then said only "no workshop 1": into another program's database, and
+// into a copy (cp) of a database taken while the server ran, whose
+// contents were all still in the -wal journal the copy left behind,
+// so that a facilitator read their workshop as lost. Such a copy is
+// named as one, with how to copy instead.
+func TestStoreCommandsRefuseAFileWithoutParleysTables(t *testing.T) {
+	dir := t.TempDir()
+	// A server's database, still open: its contents are in its journal.
+	served := filepath.Join(dir, "parley.db")
+	db, err := store.Open(served)
+	check(t, err)
+	defer db.Close()
+	check(t, db.CreateWorkshop(context.Background(), &workshop.Workshop{Title: "Still in the journal (invented)"}))
+	copied := filepath.Join(dir, "copied.db")
+	b, err := os.ReadFile(served)
+	check(t, err)
+	check(t, os.WriteFile(copied, b, 0o644))
+
+	other := filepath.Join(dir, "notes.sqlite")
+	raw, err := sql.Open("sqlite3", other)
+	check(t, err)
+	_, err = raw.Exec(`CREATE TABLE notes (body TEXT)`)
+	check(t, err)
+	check(t, raw.Close())
+
+	empty := filepath.Join(dir, "empty.db")
+	check(t, os.WriteFile(empty, nil, 0o644))
+
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q1,0.1,0.3,0.6,\n")
+	for _, c := range []struct{ file, says string }{
+		{copied, "it looks like a copy of a Parley database taken while the server ran, without its " + copied + "-wal journal"},
+		{other, "is an SQLite database of another program (1 table, not Parley's)"},
+		{empty, "holds no Parley database (it is empty)"},
+	} {
+		before, err := os.ReadFile(c.file)
+		check(t, err)
+		for _, args := range [][]string{
+			{"export", "--db", c.file, "--workshop", "1"},
+			{"backup", "--db", c.file, "--out", filepath.Join(t.TempDir(), "copy.db")},
+			{"import-answers", "--db", c.file, "--workshop", "1", "--in", sheet},
+			{"facilitator-reset", "--db", c.file},
+		} {
+			code, out, errs := run(args...)
+			if code != exitBadInput || out != "" || !strings.Contains(errs, "--db: "+c.file) || !strings.Contains(errs, c.says) {
+				t.Errorf("%v: exit %d, stdout %q, stderr %q; want 2 saying %q", args, code, out, errs, c.says)
+			}
+		}
+		if after, _ := os.ReadFile(c.file); !bytes.Equal(before, after) {
+			t.Errorf("a refused command changed %s", c.file)
+		}
+		for _, suffix := range []string{"-wal", "-shm"} {
+			if _, err := os.Lstat(c.file + suffix); err == nil {
+				t.Errorf("a refused command made %s%s", c.file, suffix)
+			}
+		}
+	}
+	// The database itself, open in the server, is read as it stands.
+	if code, out, errs := run("export", "--db", served, "--workshop", "1"); code != exitOK || !strings.Contains(out, "Still in the journal") {
+		t.Errorf("export of the served database: exit %d, %s", code, errs)
+	}
+}
