@@ -118,6 +118,18 @@ func parleyDatabase(path string) error {
 	return nil
 }
 
+// notAnothersDatabase is parleyDatabase for the commands that may make a
+// database in a file that holds none (serve, import): an empty file is
+// theirs to fill, while another program's database or a copy taken
+// without its journal is refused as parleyDatabase refuses it.
+func notAnothersDatabase(path string) error {
+	var np *store.NotParleyError
+	if err := store.CheckParley(path); errors.As(err, &np) && (np.Tables > 0 || np.WALCopy) {
+		return badInput("db", "%v", err)
+	}
+	return nil
+}
+
 // existingDatabase checks that --db names a file that exists: not a
 // folder, whose many names (a folder's "." and "..") read as hard links
 // the store refuses, nor a mistyped name.

@@ -67,6 +67,9 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 // I/O error) removes it with its journal files and leaves nothing behind.
 func importInto(path string, rec record.Checked) (int64, error) {
 	if _, err := os.Stat(path); err == nil {
+		if err := notAnothersDatabase(path); err != nil {
+			return 0, err
+		}
 		db, err := store.Open(path)
 		if err != nil {
 			return 0, notADatabase(path, err)

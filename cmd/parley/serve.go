@@ -116,6 +116,11 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		return err
 	}
 	defer claim.Release()
+	if _, err := os.Stat(dbPath); err == nil {
+		if err := notAnothersDatabase(c.db); err != nil {
+			return err
+		}
+	}
 	db, err := store.Open(dbPath)
 	if err != nil {
 		return notADatabase(c.db, err)

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"bytes"
 	"context"
+	"database/sql"
 	"fmt"
 	"io"
 	"net"
@@ -13,6 +14,7 @@ import (
 	"os"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"sync"
 	"testing"
@@ -471,5 +473,61 @@ func TestServeSuggestsAResetAShellReads(t *testing.T) {
 	}
 	if got := shellWord("/srv/parley/parley.db"); got != "/srv/parley/parley.db" {
 		t.Errorf("a plain path is written %q", got)
+	}
+}
+
+// TestServeAndImportRefuseAnotherProgramsDatabase: serve and import, which
+// make a database in a new or empty file, refuse as bad input naming --db
+// an SQLite database of another program and a copy taken while a server
+// ran without its journal, and leave them unchanged; they wrote Parley's
+// tables (and serve its demo workshop) into them.
+func TestServeAndImportRefuseAnotherProgramsDatabase(t *testing.T) {
+	dir := t.TempDir()
+	other := filepath.Join(dir, "notes.sqlite")
+	raw, err := sql.Open("sqlite3", other)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if _, err := raw.Exec(`CREATE TABLE notes (body TEXT)`); err != nil {
+		t.Fatal(err)
+	}
+	raw.Close()
+	served := filepath.Join(dir, "parley.db")
+	db, err := store.Open(served)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	copied := filepath.Join(dir, "copied.db")
+	b, err := os.ReadFile(served)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := os.WriteFile(copied, b, 0o644); err != nil {
+		t.Fatal(err)
+	}
+	src, wid, _ := cliWorkshop(t)
+	record := filepath.Join(dir, "record.json")
+	if code, _, errs := run("export", "--db", src, "--workshop", strconv.FormatInt(wid, 10), "--out", record); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	for _, c := range []struct{ db, says string }{
+		{other, "--db: " + other + " is an SQLite database of another program"},
+		{copied, "--db: " + copied + " holds no tables: it looks like a copy"},
+	} {
+		before, _ := os.ReadFile(c.db)
+		ctx, cancel := context.WithCancel(context.Background())
+		cancel()
+		var out, errOut syncBuffer
+		err := serve(ctx, serveConfig{addr: "127.0.0.1:0", db: c.db, noDemo: false}, &out, &errOut)
+		if err == nil || fail(io.Discard, "serve", err) != exitBadInput || !strings.Contains(err.Error(), c.says) {
+			t.Errorf("serve --db %s: %v; want bad input saying %q", c.db, err, c.says)
+		}
+		if code, _, errs := run("import", "--db", c.db, "--in", record); code != exitBadInput || !strings.Contains(errs, c.says) {
+			t.Errorf("import --db %s: exit %d, %s; want 2 saying %q", c.db, code, errs, c.says)
+		}
+		if after, _ := os.ReadFile(c.db); !bytes.Equal(before, after) {
+			t.Errorf("%s was changed", c.db)
+		}
 	}
 }
