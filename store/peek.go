@@ -8,6 +8,7 @@ import (
 	"io"
 	"net/url"
 	"os"
+	"path/filepath"
 	"strconv"
 )
 
@@ -87,4 +88,81 @@ func walHeader(path string) bool {
 		return false
 	}
 	return h[18] == 2 && h[19] == 2
+}
+
+// OldSchemaError says a database that must be read without writing (its
+// file or folder is read-only) was written by an older Parley: it needs
+// the upgrade Open would make, which cannot be written.
+type OldSchemaError struct {
+	Database string
+	Version  int // the database's schema version
+	Latest   int
+}
+
+func (e *OldSchemaError) Error() string {
+	return fmt.Sprintf("%s has schema version %d, from an older Parley, and this one reads version %d: "+
+		"it must be upgraded, which writes to it, and it cannot be written here; "+
+		"copy it (cp, with any %s-wal beside it) to a writable folder and give the copy",
+		e.Database, e.Version, e.Latest, e.Database)
+}
+
+// OpenReadOnly opens the database at path for reading only, for the
+// commands that only read (export, backup) when the file or its folder
+// cannot be written: Open's writer and its upgrade need both. It changes
+// nothing and makes no files when the folder is read-only and no journal
+// is beside the file (nothing can then be writing it, so it is read as
+// immutable). A database at another schema version than this Parley's is
+// refused (*OldSchemaError, *NewerSchemaError), as is a file that holds
+// no Parley database (*NotParleyError). Writes through it fail.
+func OpenReadOnly(path string) (*DB, error) {
+	if path == "" {
+		return nil, errors.New("store: empty database path")
+	}
+	if err := oneName(path); err != nil {
+		return nil, err
+	}
+	if err := CheckParley(path); err != nil {
+		return nil, err
+	}
+	_, err := os.Lstat(path + "-wal")
+	noJournal := errors.Is(err, os.ErrNotExist)
+	v := url.Values{}
+	v.Set("_busy_timeout", "5000")
+	v.Set("_foreign_keys", "on")
+	v.Set("mode", "ro")
+	if noJournal && walHeader(path) && !dirWritable(filepath.Dir(path)) {
+		v.Set("immutable", "1")
+	}
+	r, err := sql.Open("sqlite3", "file:"+url.PathEscape(path)+"?"+v.Encode())
+	if err != nil {
+		return nil, fmt.Errorf("store: open %s: %w", path, err)
+	}
+	r.SetMaxOpenConns(4)
+	db := &DB{path: path, w: r, r: r, rows: newRows()}
+	ctx := context.Background()
+	version, err := db.SchemaVersion(ctx)
+	if err != nil {
+		r.Close()
+		return nil, fmt.Errorf("store: open %s: %w", path, err)
+	}
+	switch latest := LatestVersion(); {
+	case version > latest:
+		r.Close()
+		return nil, &NewerSchemaError{Database: path, Version: version, Latest: latest}
+	case version < latest:
+		r.Close()
+		return nil, &OldSchemaError{Database: path, Version: version, Latest: latest}
+	}
+	return db, nil
+}
+
+// dirWritable reports whether a file can be made in dir.
+func dirWritable(dir string) bool {
+	f, err := os.CreateTemp(dir, ".parley-write-check-*")
+	if err != nil {
+		return false
+	}
+	f.Close()
+	os.Remove(f.Name())
+	return true
 }

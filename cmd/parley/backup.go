@@ -39,7 +39,7 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if err := creatable("out", *out); err != nil {
 		return fail(stderr, "backup", err)
 	}
-	db, err := openExisting(*dbPath)
+	db, err := openForReading(*dbPath)
 	if err != nil {
 		return fail(stderr, "backup", err)
 	}
@@ -103,6 +103,34 @@ func notADatabase(path string, err error) error {
 		return badInput("db", "%s is not a Parley database (SQLite reads no database in it); give the file the server uses", path)
 	}
 	return err
+}
+
+// openForReading is openExisting for the commands that only read
+// (export, backup): a database whose file or folder cannot be written (a
+// read-only disk, another user's file) is opened read-only instead,
+// as it stands, so that it can still be exported or copied to a writable
+// disk; openExisting, which opens the writer and upgrades, refused it
+// with "attempt to write a readonly database".
+func openForReading(path string) (*store.DB, error) {
+	if path == "" {
+		return nil, badInput("db", "a database file is required")
+	}
+	if err := existingDatabase(path); err != nil {
+		return nil, err
+	}
+	var nw *store.NotWritableError
+	if err := store.CheckWritable(path); !errors.As(err, &nw) {
+		return openExisting(path)
+	}
+	db, err := store.OpenReadOnly(path)
+	var np *store.NotParleyError
+	if errors.As(err, &np) {
+		return nil, badInput("db", "%v", err)
+	}
+	if err != nil {
+		return nil, notADatabase(path, fmt.Errorf("open %s (read-only): %w", path, err))
+	}
+	return db, nil
 }
 
 // parleyDatabase refuses, as bad input naming --db, an existing file

@@ -6,6 +6,7 @@ import (
 	"io"
 	"net"
 
+	"github.com/parley-elicit/parley/store"
 	"github.com/parley-elicit/parley/web"
 )
 
@@ -40,6 +41,13 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 		}
 		if err != nil || port == "" {
 			return fail(stderr, "facilitator-reset", badInput("addr", "must be host:port as given to parley serve, such as 127.0.0.1:8080, got %q", *addr))
+		}
+	}
+	// The secret is written: a file that cannot be written is said as
+	// serve says it, not as SQLite's "attempt to write a readonly database".
+	if *dbPath != "" && existingDatabase(*dbPath) == nil {
+		if err := store.CheckWritable(*dbPath); err != nil {
+			return fail(stderr, "facilitator-reset", err)
 		}
 	}
 	db, err := openExisting(*dbPath)
