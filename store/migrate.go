@@ -111,11 +111,31 @@ func (db *DB) MigrateTo(ctx context.Context, version int) error {
 			return err
 		})
 		if err != nil {
-			return fmt.Errorf("store: migration %s: %w", m.name, err)
+			return &MigrationError{Database: db.path, Name: m.name, Version: m.version - 1, Err: err}
 		}
 	}
 	return nil
 }
+
+// MigrationError says a migration step failed: its transaction was rolled
+// back, so the database is at the version before it, as it was. A step
+// whose tables or columns are already there (a half-applied step, by
+// hand or another program, without its row in schema_migrations) fails
+// this way, as does one on a full disk.
+type MigrationError struct {
+	Database string
+	Name     string // the step's file
+	Version  int    // the database's version, unchanged
+	Err      error
+}
+
+func (e *MigrationError) Error() string {
+	return fmt.Sprintf("store: migration %s: %v; the upgrade of %s stopped there and was undone, so the database "+
+		"is at schema version %d as it was (where the error names a table or column that already exists, part of "+
+		"the step was made by hand or by another program: restore the database from a backup)", e.Name, e.Err, e.Database, e.Version)
+}
+
+func (e *MigrationError) Unwrap() error { return e.Err }
 
 // NewerSchemaError says the database was last migrated by a newer Parley:
 // its schema has steps this binary does not know, so it could misread or

@@ -161,3 +161,48 @@ func TestNewerSchemaIsRefused(t *testing.T) {
 		t.Fatalf("after the refusal, schema version %d, %v", v, err)
 	}
 }
+
+// TestHalfAppliedMigrationIsUndone: a database holding part of a step
+// without its row in schema_migrations (a column added by hand) fails
+// that step with a *MigrationError naming the step and the version the
+// database stays at; the step is undone, the file is at its old
+// version with its data, and opens again once the part is gone.
+func TestHalfAppliedMigrationIsUndone(t *testing.T) {
+	ctx := context.Background()
+	path := filepath.Join(t.TempDir(), "half.db")
+	old, err := open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	const before = 12 // the step after it, 0013, adds questions.log_uniform_background
+	if err := old.MigrateTo(ctx, before); err != nil {
+		t.Fatal(err)
+	}
+	w := workshop.Workshop{Title: "Half applied (invented)"}
+	if err := old.CreateWorkshop(ctx, &w); err != nil {
+		t.Fatal(err)
+	}
+	// Step 0013's column, made by hand: the step fails as it adds it.
+	if _, err := old.w.ExecContext(ctx, `ALTER TABLE questions ADD COLUMN log_uniform_background INTEGER NOT NULL DEFAULT 0`); err != nil {
+		t.Fatal(err)
+	}
+	old.Close()
+
+	_, err = Open(path)
+	var me *MigrationError
+	if !errors.As(err, &me) || me.Version != before || me.Name != "0013_log_uniform_background.sql" ||
+		!strings.Contains(err.Error(), "was undone") || !strings.Contains(err.Error(), "schema version "+strconv.Itoa(before)) {
+		t.Fatalf("Open of a half-applied database: %v; want a *MigrationError at version %d", err, before)
+	}
+	db, err := open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	if v, err := db.SchemaVersion(ctx); err != nil || v != before {
+		t.Fatalf("after the failed step: version %d, %v", v, err)
+	}
+	if got, err := db.Workshop(ctx, w.ID); err != nil || got.Title != w.Title {
+		t.Fatalf("after the failed step: workshop %+v, %v", got, err)
+	}
+}
