@@ -96,11 +96,18 @@ func openExisting(path string) (*store.DB, error) {
 
 // notADatabase turns SQLite's refusal of a file that is no database (a
 // record or a sheet given as --db by mistake) into bad input naming
-// --db; other errors pass unchanged.
+// --db, and its refusal of a damaged one into a message saying so and
+// what to do; other errors pass unchanged.
 func notADatabase(path string, err error) error {
 	var se sqlite3.Error
 	if errors.As(err, &se) && se.Code == sqlite3.ErrNotADB {
 		return badInput("db", "%s is not a Parley database (SQLite reads no database in it); give the file the server uses", path)
+	}
+	if errors.As(err, &se) && se.Code == sqlite3.ErrCorrupt {
+		// A file cut short or overwritten in part (a copy taken as the
+		// server wrote, a failing disk): nothing here can mend it.
+		return fmt.Errorf("%s is damaged (SQLite: %v): restore it from a backup made with parley backup, "+
+			"or from its last exported record with parley import; nothing was changed", path, se)
 	}
 	return err
 }

@@ -867,3 +867,31 @@ func TestStoreCommandsRefuseAFileWithoutParleysTables(t *testing.T) {
 		t.Errorf("export of the served database: exit %d, %s", code, errs)
 	}
 }
+
+// TestStoreCommandsSayADamagedDatabaseIsDamaged: a database cut short (a
+// copy taken as the server wrote, a failing disk) is named as damaged,
+// with how to restore it, exit 1, and left as it was; the commands said
+// only "store: open …: database disk image is malformed".
+func TestStoreCommandsSayADamagedDatabaseIsDamaged(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	ws := strconv.FormatInt(wid, 10)
+	b, err := os.ReadFile(path)
+	check(t, err)
+	torn := filepath.Join(t.TempDir(), "torn.db")
+	check(t, os.WriteFile(torn, b[:len(b)*2/3], 0o644))
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,\n")
+	for _, args := range [][]string{
+		{"export", "--db", torn, "--workshop", ws},
+		{"backup", "--db", torn, "--out", filepath.Join(t.TempDir(), "copy.db")},
+		{"import-answers", "--db", torn, "--workshop", ws, "--in", sheet},
+		{"facilitator-reset", "--db", torn},
+	} {
+		code, out, errs := run(args...)
+		if code != exitFailure || out != "" || !strings.Contains(errs, torn+" is damaged (SQLite: ") || !strings.Contains(errs, "restore it from a backup") {
+			t.Errorf("%v: exit %d, stdout %q, stderr %q; want 1 saying the file is damaged", args, code, out, errs)
+		}
+	}
+	if after, _ := os.ReadFile(torn); !bytes.Equal(after, b[:len(b)*2/3]) {
+		t.Error("a command changed the damaged file")
+	}
+}
