@@ -196,3 +196,17 @@ func boolInt(b bool) int {
 func notFound(what string, id int64) error {
 	return fmt.Errorf("store: %s %d: %w", what, id, workshop.ErrNotFound)
 }
+
+// FoldJournal copies the commits waiting in the write-ahead log
+// (PATH-wal) into the database file itself (PRAGMA wal_checkpoint,
+// PASSIVE: it waits for no reader and no writer waits long for it).
+// SQLite does so by itself only once the log reaches 1,000 pages, some
+// 4 MB, which a whole workshop may never write: until then a copy of the
+// file alone (cp while the server runs) held none of it. `parley serve`
+// calls it every few seconds.
+func (db *DB) FoldJournal(ctx context.Context) error {
+	if _, err := db.w.ExecContext(ctx, "PRAGMA wal_checkpoint(PASSIVE)"); err != nil {
+		return fmt.Errorf("store: fold the journal into %s: %w", db.path, err)
+	}
+	return nil
+}

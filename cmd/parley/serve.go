@@ -215,6 +215,12 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	// Live event streams are requests that never finish on their own; a
 	// graceful shutdown ends them first rather than wait for them.
 	hs.RegisterOnShutdown(srv.EndStreams)
+	// Commits are folded from the journal into the file every few
+	// seconds, so that a copy of the file alone (cp, which the README
+	// warns against) misses at most the last few seconds' work.
+	folding, stopFolding := context.WithCancel(context.Background())
+	defer stopFolding()
+	go foldJournal(folding, db, foldEvery, stderr)
 	errc := make(chan error, 1)
 	go func() {
 		if c.tlsCert != "" {
@@ -366,4 +372,25 @@ func shellWord(s string) string {
 		return s
 	}
 	return "'" + strings.ReplaceAll(s, "'", `'\''`) + "'"
+}
+
+// foldEvery is how often serve folds the journal into the database file.
+var foldEvery = 5 * time.Second
+
+// foldJournal calls db.FoldJournal every interval until ctx ends; a
+// failure is logged and tried again at the next tick (the commits stay
+// safe in the journal meanwhile).
+func foldJournal(ctx context.Context, db *store.DB, interval time.Duration, stderr io.Writer) {
+	t := time.NewTicker(interval)
+	defer t.Stop()
+	for {
+		select {
+		case <-ctx.Done():
+			return
+		case <-t.C:
+			if err := db.FoldJournal(ctx); err != nil && ctx.Err() == nil {
+				fmt.Fprintf(stderr, "parley: %v (the commits stay in the journal; tried again in %s)\n", err, interval)
+			}
+		}
+	}
 }

@@ -531,3 +531,41 @@ func TestServeAndImportRefuseAnotherProgramsDatabase(t *testing.T) {
 		}
 	}
 }
+
+// TestServeFoldsItsJournalIntoTheFile: while serving, the commits in the
+// journal (parley.db-wal) are folded into the database file every
+// foldEvery, so that a copy of the file alone holds them. A whole
+// workshop could stay in the journal (SQLite folds it by itself only at
+// some 4 MB): a cp of parley.db after the demo was made held no
+// workshop at all, however long the server had run.
+func TestServeFoldsItsJournalIntoTheFile(t *testing.T) {
+	was := foldEvery
+	foldEvery = 20 * time.Millisecond
+	t.Cleanup(func() { foldEvery = was })
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	_, _, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath})
+	copied := filepath.Join(t.TempDir(), "copied.db")
+	workshops := 0
+	for deadline := time.Now().Add(5 * time.Second); time.Now().Before(deadline) && workshops == 0; time.Sleep(50 * time.Millisecond) {
+		b, err := os.ReadFile(dbPath)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(copied, b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+		raw, err := sql.Open("sqlite3", "file:"+copied+"?immutable=1")
+		if err != nil {
+			t.Fatal(err)
+		}
+		// An error (no table yet) counts as none.
+		_ = raw.QueryRow(`SELECT COUNT(*) FROM workshops`).Scan(&workshops)
+		raw.Close()
+	}
+	if workshops != 1 {
+		t.Errorf("a copy of the served file alone holds %d workshops, want the demo", workshops)
+	}
+	if err := stop(); err != nil {
+		t.Fatal(err)
+	}
+}
