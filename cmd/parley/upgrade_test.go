@@ -3,9 +3,14 @@ package main
 import (
 	"database/sql"
 	"encoding/json"
+	"io"
 	"io/fs"
+	"net/http"
+	"net/http/cookiejar"
+	"net/url"
 	"os"
 	"path/filepath"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -144,6 +149,54 @@ func TestAnOldDatabaseUpgradesWithItsRecord(t *testing.T) {
 		code, stdout, errs := run("fingerprint", "--in", out)
 		if code != exitOK || !strings.Contains(stdout, "round 1") {
 			t.Errorf("from version %d: fingerprint exit %d, stdout %q, stderr %q", k, code, stdout, errs)
+		}
+	}
+}
+
+// notANumber finds a NaN or an infinity written out, not the word
+// Information.
+var notANumber = regexp.MustCompile(`\bNaN\b|[+-]?\bInf\b|\bInfinity\b`)
+
+// TestAnOldDatabaseIsServed: parley serve on a database written at an
+// earlier schema version upgrades it, keeps the fits of its revisions,
+// and every page of the facilitator's (the workshop, both questions and
+// their history, room, reasons and study pages, the calibration page,
+// the entry page, the log, the report and the downloads) answers 200
+// without a NaN or an Inf.
+func TestAnOldDatabaseIsServed(t *testing.T) {
+	for _, k := range []int{2, 8, store.LatestVersion() - 1} {
+		path := oldDatabase(t, k)
+		base, out, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: path, noDemo: true})
+		text := out.String()
+		if k < 9 && !strings.Contains(text, "kept the fits of 7 earlier revisions") {
+			t.Errorf("from version %d: the fits kept are not said:\n%s", k, text)
+		}
+		m := signInLine.FindStringSubmatch(text)
+		if m == nil {
+			t.Fatalf("from version %d: no sign-in address:\n%s", k, text)
+		}
+		jar, _ := cookiejar.New(nil)
+		c := &http.Client{Jar: jar}
+		req, _ := http.NewRequest(http.MethodPost, base+"/signin", strings.NewReader(url.Values{"secret": {m[2]}}.Encode()))
+		req.Header.Set("Content-Type", "application/x-www-form-urlencoded")
+		req.Header.Set("Origin", base)
+		res, err := c.Do(req)
+		check(t, err)
+		res.Body.Close()
+		for _, p := range []string{"/", "/w/1/", "/w/1/q/1", "/w/1/q/2", "/w/1/q/1/history", "/w/1/q/1/room",
+			"/w/1/q/2/room", "/w/1/q/1/reasons", "/w/1/q/1/study", "/w/1/calibration", "/w/1/experts/3",
+			"/w/1/q/1/enter/3", "/w/1/quick-priors", "/w/1/log", "/w/1/report", "/w/1/export.json",
+			"/w/1/export.csv", "/w/1/priors.csv"} {
+			res, err := c.Get(base + p)
+			check(t, err)
+			b, _ := io.ReadAll(res.Body)
+			res.Body.Close()
+			if bad := notANumber.FindString(string(b)); res.StatusCode != http.StatusOK || bad != "" {
+				t.Errorf("from version %d: %s: %d %q", k, p, res.StatusCode, bad)
+			}
+		}
+		if err := stop(); err != nil {
+			t.Fatal(err)
 		}
 	}
 }
