@@ -200,3 +200,43 @@ func TestAnOldDatabaseIsServed(t *testing.T) {
 		}
 	}
 }
+
+// TestAnOldRecordWithCloseProbabilitiesReadsBack: a question made before
+// its probabilities had to be 0.001 apart (workshop.MinProbGap), asking
+// for 0.5 and 0.5000001, is exported from the upgraded database and its
+// record imported again, as it was written; the import refused the
+// record ("questions[2].probs[2]: must be at least 0.001 … above the
+// probability before it"), so the workshop's record no longer read back.
+func TestAnOldRecordWithCloseProbabilitiesReadsBack(t *testing.T) {
+	path := oldDatabase(t, 8)
+	raw, err := sql.Open("sqlite3", path)
+	check(t, err)
+	for _, q := range []string{
+		`INSERT INTO questions (id, workshop_id, position, wording, quantity, lower, upper, format, probs) VALUES
+			(3, 1, 3, 'Share of culverts cleared within a week?', 'cleared share', 0, 1, 'quantiles', '[0.05,0.5,0.5000001,0.95]')`,
+		`INSERT INTO events (workshop_id, question_id, kind, at) VALUES (1, 3, 'question_added', '2026-01-05T13:00:00Z')`,
+		`INSERT INTO revisions (question_id, expert_id, round, at, reason, answer_values) VALUES (3, 1, 2, '2026-01-05T13:01:00Z', 'crew logs', '[0.1,0.3,0.31,0.6]')`,
+	} {
+		_, err := raw.Exec(q)
+		check(t, err)
+	}
+	check(t, raw.Close())
+	rec := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", "1", "--out", rec); code != exitOK {
+		t.Fatalf("export: exit %d, %s", code, errs)
+	}
+	into := filepath.Join(t.TempDir(), "restored.db")
+	code, out, errs := run("import", "--db", into, "--in", rec)
+	if code != exitOK {
+		t.Fatalf("import of the record: exit %d, %s", code, errs)
+	}
+	again := filepath.Join(t.TempDir(), "again.json")
+	if code, _, errs := run("export", "--db", into, "--workshop", strings.TrimSpace(out), "--out", again); code != exitOK {
+		t.Fatalf("export of the restored workshop: exit %d, %s", code, errs)
+	}
+	b, err := os.ReadFile(again)
+	check(t, err)
+	if !strings.Contains(string(b), "0.5000001") {
+		t.Error("the restored question does not ask for 0.5000001")
+	}
+}

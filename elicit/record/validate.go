@@ -483,7 +483,9 @@ func checkQuestion(p string, q workshop.Question) error {
 	if (q.RevealedAt != nil || q.RevealedThrough > 0) && !q.Frozen() {
 		return inputErr(p+".revealed_at", elicit.RuleUnknown, "only a calibration question whose true value is revealed has a reveal")
 	}
-	return under(p, q.Validate())
+	// As kept: a question made before a rule for typing it (MinProbGap)
+	// comes back as it was written.
+	return under(p, q.ValidateKept())
 }
 
 func checkPrior(p string, ap workshop.AgreedPrior, q workshop.Question, w workshop.Workshop) error {

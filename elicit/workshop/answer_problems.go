@@ -21,7 +21,7 @@ const RuleConfidenceForm = elicit.RuleProbOpen
 // them, then applies the rules only the fit can check. A question that
 // breaks its own rules is reported as that one problem.
 func (q Question) Problems(a Answer) []*elicit.InputError {
-	if err := q.Validate(); err != nil {
+	if err := q.ValidateKept(); err != nil { // as Judgement reads the question
 		if ie, ok := err.(*elicit.InputError); ok {
 			return []*elicit.InputError{ie}
 		}

@@ -47,7 +47,13 @@ const (
 // bounds and the workshop's exported record unreadable (found in
 // review).
 func (q Question) CheckCorrection(next Question, rec Recorded) error {
-	if err := next.Validate(); err != nil {
+	check := next.Validate
+	if slices.Equal(next.Probs, q.Probs) {
+		// Probabilities asked before MinProbGap, kept as they were, do
+		// not stop a correction of the wording.
+		check = next.ValidateKept
+	}
+	if err := check(); err != nil {
 		return err
 	}
 	if q.Frozen() {

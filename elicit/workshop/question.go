@@ -48,7 +48,18 @@ const MaxChips = 1000
 // log scale, a calibration question with a lower bound of at least 0 and
 // a true value above 0 (RuleLogScaleCalibration, RuleLogScaleLower,
 // CheckTrueValue).
-func (q Question) Validate() error {
+func (q Question) Validate() error { return q.validate(true) }
+
+// ValidateKept checks a question already recorded, as an imported record
+// holds it: Validate's rules but MinProbGap's. That rule guards typing,
+// and a question made before it may ask for probabilities closer
+// together (0.5 and 0.5000001); a question answered is never asked
+// again, so the record brings it back as it was written rather than
+// not at all.
+func (q Question) ValidateKept() error { return q.validate(false) }
+
+// validate is Validate, with MinProbGap's rule when gap is true.
+func (q Question) validate(gap bool) error {
 	if err := q.checkText(); err != nil {
 		return err
 	}
@@ -63,7 +74,7 @@ func (q Question) Validate() error {
 		if err := elicit.CheckProbs("probs", q.Probs); err != nil {
 			return err
 		}
-		if err := checkProbGap(q.Probs); err != nil {
+		if err := checkProbGap(q.Probs); gap && err != nil {
 			return err
 		}
 	case FormatInterval:
@@ -179,7 +190,9 @@ func (q Question) checkText() error {
 // goes through elicit.FourValue. FormatChips is not a quantile judgement and is
 // refused with RuleQuantileFormat; use Fit.
 func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
-	if err := q.Validate(); err != nil {
+	// A question made before MinProbGap is answered and fitted as it was
+	// asked: the gap guards typing a question, not reading one.
+	if err := q.ValidateKept(); err != nil {
 		return elicit.Judgement{}, err
 	}
 	switch q.Format {

@@ -248,3 +248,40 @@ func TestDefaultBinEdgesKeepTheRulesOfBins(t *testing.T) {
 		}
 	}
 }
+
+// TestValidateKeptTakesAQuestionFromBeforeTheGapRule: a question recorded
+// before MinProbGap, asking for 0.5 and 0.5000001, is kept (ValidateKept,
+// which an imported record's questions meet) though a new one is refused
+// (Validate); every other rule holds for both.
+func TestValidateKeptTakesAQuestionFromBeforeTheGapRule(t *testing.T) {
+	q := quantileQuestion()
+	q.Probs = []float64{0.05, 0.5, 0.5000001, 0.95}
+	var ie *elicit.InputError
+	if err := q.Validate(); !errors.As(err, &ie) || ie.Rule != RuleProbGap {
+		t.Fatalf("Validate: %v, want %s", err, RuleProbGap)
+	}
+	if err := q.ValidateKept(); err != nil {
+		t.Fatalf("ValidateKept: %v", err)
+	}
+	// Such a question is answered, fitted and corrected as it was asked.
+	a := Answer{Values: []float64{0.1, 0.3, 0.31, 0.6}}
+	if _, err := q.Fit(a); err != nil {
+		t.Errorf("Fit of an answer to it: %v", err)
+	}
+	if ps := q.Problems(a); len(ps) != 0 {
+		t.Errorf("Problems of an answer to it: %v", ps)
+	}
+	next := q
+	next.Wording = "What proportion of the new inverters will fail within a year? (invented example)"
+	if err := q.CheckCorrection(next, Recorded{Answers: 1}); err != nil {
+		t.Errorf("a correction of its wording: %v", err)
+	}
+	next.Probs = []float64{0.05, 0.5, 0.5000002, 0.95}
+	if err := q.CheckCorrection(next, Recorded{}); !errors.As(err, &ie) || ie.Rule != RuleProbGap {
+		t.Errorf("a correction to other probabilities too close: %v, want %s", err, RuleProbGap)
+	}
+	q.Probs = []float64{0.05, 0.5, 0.5}
+	if err := q.ValidateKept(); !errors.As(err, &ie) || ie.Field != "probs[2]" {
+		t.Fatalf("ValidateKept of probabilities that do not increase: %v", err)
+	}
+}
