@@ -109,8 +109,8 @@ func (e *OldSchemaError) Error() string {
 // OpenReadOnly opens the database at path for reading only, for the
 // commands that only read (export, backup) when the file or its folder
 // cannot be written: Open's writer and its upgrade need both. It changes
-// nothing and makes no files when the folder is read-only and no journal
-// is beside the file (nothing can then be writing it, so it is read as
+// nothing and makes no files when the folder is read-only or its disk
+// full and no journal is beside the file (nothing can then be writing it, so it is read as
 // immutable). A database at another schema version than this Parley's is
 // refused (*OldSchemaError, *NewerSchemaError), as is a file that holds
 // no Parley database (*NotParleyError). Writes through it fail.
@@ -156,13 +156,18 @@ func OpenReadOnly(path string) (*DB, error) {
 	return db, nil
 }
 
-// dirWritable reports whether a file can be made in dir.
+// dirWritable reports whether a file can be made and written in dir (a
+// full disk makes an empty file, but takes no byte).
 func dirWritable(dir string) bool {
 	f, err := os.CreateTemp(dir, ".parley-write-check-*")
 	if err != nil {
 		return false
 	}
+	_, err = f.Write([]byte{0})
+	if err == nil {
+		err = f.Sync()
+	}
 	f.Close()
 	os.Remove(f.Name())
-	return true
+	return err == nil
 }

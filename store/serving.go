@@ -197,12 +197,19 @@ func CheckWritable(path string) error {
 		return &NotWritableError{Path: path, Problem: dir + " is not a folder"}
 	}
 	probe, err := os.CreateTemp(dir, ".parley-write-check-*")
+	if err == nil {
+		// An empty file takes no room: a full disk makes one, and is
+		// found only by a byte written and synced.
+		if _, err = probe.Write([]byte{0}); err == nil {
+			err = probe.Sync()
+		}
+		probe.Close()
+		os.Remove(probe.Name())
+	}
 	if err != nil {
 		return &NotWritableError{Path: path, Err: err, Problem: "the folder " + dir + " (where SQLite keeps the database's journal, " +
 			filepath.Base(real) + "-wal and -shm) " + whyNot(err, dir)}
 	}
-	probe.Close()
-	os.Remove(probe.Name())
 	for _, name := range []string{real, real + "-wal", real + "-shm"} {
 		f, err := os.OpenFile(name, os.O_RDWR, 0)
 		if errors.Is(err, fs.ErrNotExist) {

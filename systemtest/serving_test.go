@@ -200,6 +200,61 @@ func TestStartupSaysWhyTheDatabaseCannotBeWritten(t *testing.T) {
 		t.Errorf("a link to a database in a read-only folder: exit %d, %q", code, msg)
 	}
 
+	// A full disk: a small tmpfs holding the database, filled to the
+	// last block. A file can still be made there (an empty file takes no
+	// room), and the start failed at the lock file with "no space left
+	// on device", not naming the disk as full.
+	if full := mountTmpfs(t, "512k"); full != "" {
+		db := filepath.Join(full, "parley.db")
+		seedWorkshop(t, db, 1, 1)
+		if uid >= 0 {
+			for _, p := range []string{full, db} {
+				if err := os.Chown(p, uid, uid); err != nil {
+					t.Fatal(err)
+				}
+			}
+		}
+		filler, err := os.Create(filepath.Join(full, "filler"))
+		if err != nil {
+			t.Fatal(err)
+		}
+		for err == nil {
+			_, err = filler.Write(make([]byte, 4096))
+		}
+		filler.Close()
+		if code, msg := serve(db); code != 1 || !strings.Contains(msg, "cannot write "+db+": the folder "+full+" (where SQLite keeps the database's journal, parley.db-wal and -shm) is on a full disk; free some space") {
+			t.Errorf("full disk: exit %d, %q", code, msg)
+		}
+		// The work can still be taken off the full disk: export and backup
+		// read it as it stands, and make no file beside it; both failed with
+		// "no space left on device", leaving journal files behind.
+		if code, stdout, stderr := runParley(t, uid, 20*time.Second, "export", "--db", db, "--workshop", "1"); code != 0 || !strings.Contains(stdout, `"parley_record"`) {
+			t.Errorf("export from a full disk: exit %d, %s", code, stderr)
+		}
+		elsewhere := filepath.Join(base, "off-the-full-disk")
+		if err := os.Mkdir(elsewhere, 0o777); err != nil {
+			t.Fatal(err)
+		}
+		if err := os.Chmod(elsewhere, 0o777); err != nil {
+			t.Fatal(err)
+		}
+		copyPath := filepath.Join(elsewhere, "copy.db")
+		if code, stdout, stderr := runParley(t, uid, 20*time.Second, "backup", "--db", db, "--out", copyPath); code != 0 || !strings.Contains(stdout, "integrity check ok") {
+			t.Errorf("backup from a full disk: exit %d, %s", code, stderr)
+		}
+		entries, err := os.ReadDir(full)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if len(entries) != 2 {
+			var names []string
+			for _, e := range entries {
+				names = append(names, e.Name())
+			}
+			t.Errorf("the full disk holds %v; want the database and the filler", names)
+		}
+	}
+
 	// A read-only filesystem: a small tmpfs, written, then remounted
 	// read-only. Root may write any file, but not on a read-only mount.
 	mnt := mountTmpfs(t, "1m")
