@@ -192,14 +192,17 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		case revised > 0:
 			verb = "revised"
 		default:
-			// Nobody yet: a question added since the last close has
-			// first answers to come in this round, not revisions.
-			evs, err := s.store.Events(r.Context(), ws.ID)
-			if err != nil {
-				return err
-			}
-			if !addedAfterClose(evs, q.ID, ws.Round-1) {
-				verb = "revised"
+			// Nobody yet: revisions are to come where an active expert
+			// has an answer from an earlier round; on a question nobody
+			// answered then (one added since the last close, or one
+			// nobody answered in round 1) first answers are, and
+			// "No expert has revised" stood under "Nobody had answered
+			// this question when round 1 closed."
+			for id := range had {
+				if !revoked[id] {
+					verb = "revised"
+					break
+				}
 			}
 		}
 		v.Progress = roomProgress(revised+first, active, verb, ws.Round)

@@ -99,3 +99,34 @@ func TestAddedAfterCloseReadsTheLastClose(t *testing.T) {
 		}
 	}
 }
+
+// A question asked from round 1 that nobody answered then: before anyone
+// saves in round 2, the room under "Nobody had answered this question
+// when round 1 closed." said "No expert has revised this question in
+// round 2 yet.", though nobody had anything to revise. Where an active
+// expert had answered, the same count still says "revised".
+func TestRoomOfAQuestionNobodyAnsweredSaysAnsweredNotRevised(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	wp := workshopPath(ws.ID)
+	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Asked in round 1, answered by nobody (invented)?"}, "quantity": {"spares used"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add a question: %d %s", res.StatusCode, body)
+	}
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d", res.StatusCode)
+	}
+	if res, _ := h.post(wp+"/round", url.Values{"action": {"open"}, "reason": {"Round 2 (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("open: %d", res.StatusCode)
+	}
+	all, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	unanswered := all[len(all)-1]
+	_, body := h.get(roomPath(ws.ID, unanswered.ID))
+	if want := "No expert has answered this question in round 2 yet."; !strings.Contains(body, want) || strings.Contains(body, "revised") {
+		t.Errorf("room of a question nobody answered in round 1: want %q, and no word of revising", want)
+	}
+	if _, body := h.get(roomPath(ws.ID, qs[0].ID)); !strings.Contains(body, "No expert has revised this question in round 2 yet.") {
+		t.Error("room of Q1, answered in round 1: the count no longer says revised")
+	}
+}
