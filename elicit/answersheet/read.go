@@ -640,6 +640,9 @@ func countRows(body []byte) int {
 func expertInComment(body []byte, expertCol int, experts []workshop.Expert) error {
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.FieldsPerRecord = -1
+	// A note's quote mark (5" pipes) is no CSV a strict reader takes:
+	// the search stopped at it, and the rows below were dropped unsaid.
+	cr.LazyQuotes = true
 	header := true
 	for {
 		// The record's first character as the file has it: a quoted

@@ -133,3 +133,20 @@ func TestARowReadAsACommentThatNamesAnExpertIsRefused(t *testing.T) {
 		t.Fatalf("quoted names: %d rows, %v; want both experts' rows", len(rows), err)
 	}
 }
+
+// A note with a quote mark in it (“5" pipes”, “the "blocked" share”) is
+// no CSV a strict reader takes: the search for rows read as comments
+// stopped at it, and the row of expert #1 below it was left out without
+// a word.
+func TestARowReadAsACommentBelowAQuotedNoteIsRefused(t *testing.T) {
+	qs := []workshop.Question{{ID: 7, Position: 1, Wording: "Invented: share blocked?", Quantity: "blocked share",
+		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}}
+	es := []workshop.Expert{{ID: 1, Name: "#1"}, {ID: 2, Name: "B"}}
+	for _, note := range []string{`# the "blocked" share (invented)`, `# 5" pipes (invented)`} {
+		_, err := Read(strings.NewReader(note+"\nexpert,question,q05,q50,q95\n#1,Q1,0.02,0.06,0.15\nB,Q1,0.03,0.07,0.2\n"), qs, es)
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Field != "row 3, column expert" || ie.Rule != RuleHashName {
+			t.Errorf("under %s: %v, want row 3, column expert: %s", note, err, RuleHashName)
+		}
+	}
+}
