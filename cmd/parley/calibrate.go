@@ -425,6 +425,9 @@ func hashAssessments(body []byte, ncols int) []int {
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.FieldsPerRecord = -1
 	cr.TrimLeadingSpace = true
+	// A note's quote mark (5" pipes) is no CSV a strict reader takes:
+	// the search stopped at it, and the rows below went unsaid.
+	cr.LazyQuotes = true
 	var rows []int
 	header := true
 	for {

@@ -1016,3 +1016,17 @@ func TestCalibrateSaysWhichAssessmentsWereReadAsComments(t *testing.T) {
 		t.Errorf("a short note: exit %d, stderr %q; want no note", code, errOut)
 	}
 }
+
+// A note that holds a quote mark ("per 1000", 5" pipes) is no CSV a
+// strict reader takes: the search for rows read as comments stopped at
+// it, and a row of an expert named #1 below was dropped without a word
+// again.
+func TestCalibrateSaysWhichAssessmentsWereReadAsCommentsBelowAQuotedNote(t *testing.T) {
+	for _, note := range []string{`# seeds in "per 1000" (invented)`, `# 5" pipes (invented)`} {
+		in := note + "\nexpert,question,realization,q05,q50,q95\n#1,q1,3,2,5,8\nB,q1,3,4,5,6\n"
+		code, _, errOut := runCLI(t, in, "calibrate", "--input", "-")
+		if code != exitOK || !strings.Contains(errOut, "row 3 starts with # and holds an assessment") {
+			t.Errorf("under %s: exit %d, stderr %q; want a note naming row 3", note, code, errOut)
+		}
+	}
+}
