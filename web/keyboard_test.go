@@ -109,3 +109,36 @@ func TestFacilitatorsNegativeValuesGetAKeyboardWithAMinus(t *testing.T) {
 		}
 	}
 }
+
+// The consensus judgement on a question's panel, the values the panel
+// agreed, asks a phone for the full keyboard where they may be below 0,
+// as the expert's and the facilitator's other boxes do: it asked for the
+// decimal keypad whatever the bounds, so a consensus of −2 °C could not
+// be typed on an iPhone. A proportion's keeps the keypad.
+func TestConsensusValuesBelowZeroGetAKeyboardWithAMinus(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	change := workshop.Question{WorkshopID: ws.ID, Wording: "Invented: by how many degrees will the hall's mean temperature change?", Quantity: "temperature change",
+		Units: "°C", Lower: -10, Upper: 10, Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	if err := h.db.AddQuestion(context.Background(), &change); err != nil {
+		t.Fatal(err)
+	}
+	box := regexp.MustCompile(`<input type="text" inputmode="([a-z]*)" autocomplete="off" id="(cf-values-[0-9])"`)
+	for _, c := range []struct {
+		q    workshop.Question
+		want string
+	}{{change, "text"}, {qs[0], "decimal"}} {
+		res, body := h.get(questionPath(ws.ID, c.q.ID))
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("Q%d: %d", c.q.Position, res.StatusCode)
+		}
+		ms := box.FindAllStringSubmatch(body, -1)
+		if len(ms) != len(c.q.Probs) {
+			t.Fatalf("Q%d: %d consensus boxes, want %d", c.q.Position, len(ms), len(c.q.Probs))
+		}
+		for _, m := range ms {
+			if m[1] != c.want {
+				t.Errorf("Q%d (bounds %g to %g): #%s asks for inputmode %q, want %q", c.q.Position, c.q.Lower, c.q.Upper, m[2], m[1], c.want)
+			}
+		}
+	}
+}
