@@ -419,42 +419,19 @@ func readSeedCSV(r io.Reader) (*seedCSV, error) {
 // #2, … had those rows dropped without a word. Unlike the answer sheet,
 // the file names no panel that would tell such a name from a row put
 // out of the count on purpose, so they are not refused: the run says
-// which rows it left out (hashRowsWords). Lines are read as CSV without
-// comments, so that a # inside a quoted cell is no line of its own.
+// which rows it left out (hashRowsWords). The lines are found as the
+// answer sheet finds them (answersheet.CommentRows).
 func hashAssessments(body []byte, ncols int) []int {
-	cr := csv.NewReader(bytes.NewReader(body))
-	cr.FieldsPerRecord = -1
-	cr.TrimLeadingSpace = true
-	// A note's quote mark (5" pipes) is no CSV a strict reader takes:
-	// the search stopped at it, and the rows below went unsaid.
-	cr.LazyQuotes = true
 	var rows []int
-	header := true
-	for {
-		// The record's first character as the file has it: a quoted
-		// "#1" is no comment.
-		at := int(cr.InputOffset())
-		for at < len(body) && (body[at] == '\n' || body[at] == '\r') {
-			at++
-		}
-		rec, err := cr.Read()
-		if err != nil {
-			return rows
-		}
-		raw := at < len(body) && body[at] == '#'
-		if header {
-			// Comment lines above the header are the file's notes.
-			header = raw
+	for _, c := range answersheet.CommentRows(body, true) {
+		if len(c.Cells) != ncols {
 			continue
 		}
-		if !raw || len(rec) != ncols {
-			continue
-		}
-		if _, err := strconv.ParseFloat(strings.TrimSpace(rec[2]), 64); err == nil {
-			line, _ := cr.FieldPos(0)
-			rows = append(rows, line)
+		if _, err := strconv.ParseFloat(strings.TrimSpace(c.Cells[2]), 64); err == nil {
+			rows = append(rows, c.Line)
 		}
 	}
+	return rows
 }
 
 // hashRowsWords says which rows were read as comments though they hold

@@ -633,40 +633,61 @@ func countRows(body []byte) int {
 // expertInComment refuses a line below the header that the sheet's
 // reader skips as a comment (it starts with #) but whose expert cell
 // names an active expert: a panel whose experts are named #1, #2, …
-// had those rows dropped without a word. The lines are read as CSV
-// without comments, so that a # inside a quoted cell (a reason in
-// paragraphs) is no line of its own; a sheet that is no CSV is left to
-// the reader's own refusal.
+// had those rows dropped without a word (CommentRows finds the lines).
 func expertInComment(body []byte, expertCol int, experts []workshop.Expert) error {
+	for _, c := range CommentRows(body, false) {
+		if expertCol >= len(c.Cells) {
+			continue
+		}
+		if _, n := findExpert(strings.TrimSpace(c.Cells[expertCol]), experts); n > 0 {
+			return rowErr(c.Line, "expert", RuleHashName, "the row of %s is read as a comment and would be left out", shownCell(c.Cells[expertCol]))
+		}
+	}
+	return nil
+}
+
+// CommentRow is a line below a CSV file's header that CSV's comment rule
+// skips, read as a record: its line in the file and its cells.
+type CommentRow struct {
+	Line  int
+	Cells []string
+}
+
+// CommentRows are the lines below the header of a CSV file (body, its
+// lines as SpreadsheetLines leaves them) that a reader with Comment '#'
+// skips, for a reader that names rows left out that way (an expert named
+// #1). The lines are read as CSV without comments, so that a # inside a
+// quoted cell (a reason in paragraphs) is no line of its own, and a
+// quoted "#1" is no comment; comment lines above the header are the
+// file's notes. trimLeadingSpace is the file's own reader's setting. A
+// note's quote mark (5" pipes) is taken as it stands: read strictly, the
+// search stopped at it, and the rows below were dropped unsaid. A file
+// that is no CSV further on is left to its reader's own refusal.
+func CommentRows(body []byte, trimLeadingSpace bool) []CommentRow {
 	cr := csv.NewReader(bytes.NewReader(body))
 	cr.FieldsPerRecord = -1
-	// A note's quote mark (5" pipes) is no CSV a strict reader takes:
-	// the search stopped at it, and the rows below were dropped unsaid.
+	cr.TrimLeadingSpace = trimLeadingSpace
 	cr.LazyQuotes = true
+	var out []CommentRow
 	header := true
 	for {
-		// The record's first character as the file has it: a quoted
-		// "#1" is no comment.
+		// The record's first character as the file has it.
 		at := int(cr.InputOffset())
 		for at < len(body) && (body[at] == '\n' || body[at] == '\r') {
 			at++
 		}
 		rec, err := cr.Read()
 		if err != nil {
-			return nil
+			return out
 		}
-		line, _ := cr.FieldPos(0)
 		raw := at < len(body) && body[at] == '#'
 		if header {
-			// Comment lines above the header are the sheet's notes.
 			header = raw
 			continue
 		}
-		if !raw || expertCol >= len(rec) {
-			continue
-		}
-		if _, n := findExpert(strings.TrimSpace(rec[expertCol]), experts); n > 0 {
-			return rowErr(line, "expert", RuleHashName, "the row of %s is read as a comment and would be left out", shownCell(rec[expertCol]))
+		if raw {
+			line, _ := cr.FieldPos(0)
+			out = append(out, CommentRow{Line: line, Cells: rec})
 		}
 	}
 }
