@@ -171,7 +171,7 @@ func (r Record) CheckLogged() error {
 	}
 	for i, d := range r.StudyData {
 		if !questions[d.QuestionID] {
-			continue // a record narrowed to one question keeps every batch, and that question's events
+			continue // a record narrowed to one question by an earlier Parley kept every batch, and only that question's events
 		}
 		if err := take(fmt.Sprintf("study_data[%d]", i), key{workshop.EventDataRecorded, d.QuestionID, stamp(d.At)}, "batch of study data", d.ID); err != nil {
 			return err
