@@ -243,7 +243,9 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 			return "Must be " + strictlyBetween(q, f) + ", not at either end; you typed " + typed + "."
 		}
 		msg := "Must be " + between + "; you typed " + typed + "."
-		if v, err := strconv.ParseFloat(strings.TrimSuffix(typed, "%"), 64); err == nil && q.IsProportion() && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
+		// Read as the value was ("5,5" is 5.5, decimalComma).
+		asRead, _ := decimalComma(typed)
+		if v, err := strconv.ParseFloat(strings.TrimSuffix(asRead, "%"), 64); err == nil && q.IsProportion() && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
 			msg += " Did you mean " + typed + "%? Type " + typed + "% or choose percentages above."
 		}
 		return msg
@@ -478,7 +480,9 @@ func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speake
 // atBound says the value typed in field reads as exactly one of q's
 // bounds, which a value may not be: the rule is strictly between.
 func atBound(q workshop.Question, f *Form, field string) bool {
-	v, _, err := workshop.ParseAnswerNumber(field, f.Value(field), q, q.IsProportion() && f.Value("unit") == unitPercent)
+	// Read as readAnswer read it: "1,0" is at the end as "1.0" is.
+	typed, _ := decimalComma(f.Value(field))
+	v, _, err := workshop.ParseAnswerNumber(field, typed, q, q.IsProportion() && f.Value("unit") == unitPercent)
 	return err == nil && (v == q.Lower || v == q.Upper)
 }
 

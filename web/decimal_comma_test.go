@@ -73,3 +73,23 @@ func TestDecimalComma(t *testing.T) {
 		}
 	}
 }
+
+// A value typed with a decimal comma is refused in the words the same
+// value with a point gets: "1,0" on a proportion is at its upper end, not
+// "between 0 and 1; you typed 1,0", which contradicts itself to anyone
+// who reads "between" as taking in its ends; and "5,5", likely a
+// percentage, is asked about as "5.5" is ("Did you mean 5,5%?").
+func TestDecimalCommaRefusedInTheWordsOfThePoint(t *testing.T) {
+	h, _, qs, _, links := seeded(t)
+	qp := links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)
+	for _, c := range []struct{ last, want string }{
+		{"1,0", "not at either end; you typed 1,0."},
+		{"5,5", "Did you mean 5,5%? Type 5,5% or choose percentages above."},
+	} {
+		form := url.Values{"unit": {"proportion"}, "values[0]": {"0,02"}, "values[1]": {"0,05"}, "values[2]": {c.last}}
+		r, body := h.post(qp+"/save", form)
+		if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, c.want) {
+			t.Errorf("%s: %d; want %q in %.3000s", c.last, r.StatusCode, c.want, body)
+		}
+	}
+}
