@@ -86,3 +86,19 @@ func TestTypedPercentSignShownOnce(t *testing.T) {
 		t.Errorf("a final answer's f-values-0 reads %q, want \"9 %%\"", got)
 	}
 }
+
+// A confidence of 1% or less typed with a decimal comma, "0,8%", keeps
+// its own sign as "0.8%" does: shown back as "0,8" beside the box's "%",
+// it was sent again as 0,8, read as 0.8 and refused as a likely 80%.
+func TestTypedPercentSignKeptOnASmallConfidenceWithAComma(t *testing.T) {
+	g := newExpertRig(t)
+	interval := url.Values{"lowest": {"0.5"}, "highest": {"0.1"}, "best": {"0.2"}, "confidence": {"0,8%"}}
+	_, body := g.post(g.qpath(0, g.qi)+"/save", interval)
+	if got := shownBox(t, body, "f-confidence"); got != "0,8%" {
+		t.Errorf("a confidence typed 0,8%% reads %q, want \"0,8%%\" with no sign beside it", got)
+	}
+	_, body = g.post(g.qpath(0, g.qi)+"/save", url.Values{"lowest": {"0.5"}, "highest": {"0.1"}, "best": {"0.2"}, "confidence": {"80,5%"}})
+	if got := shownBox(t, body, "f-confidence"); got != "80,5 %" {
+		t.Errorf("a confidence typed 80,5%% reads %q, want \"80,5 %%\"", got)
+	}
+}
