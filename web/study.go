@@ -302,11 +302,14 @@ func withReference(priors []elicit.NamedPrior) []elicit.NamedPrior {
 // in force. It was the last choice, which without an agreed prior is the
 // performance-weight pool even when it is only suggested: a question
 // with equal weights in force was planned, unasked, under performance
-// weights that put all the weight on one expert.
+// weights that put all the weight on one expert. Where the pool in force
+// does not form (custom weights that weigh only experts who have left),
+// the equal-weight pool: the last choice was again the performance pool
+// only suggested.
 func defaultChoice(choices []priorChoice, inForce workshop.WeightScheme) string {
 	want := map[workshop.WeightScheme]string{workshop.WeightsEqual: "pool-equal", workshop.WeightsCustom: "pool-custom",
 		workshop.WeightsPerformance: "pool-performance"}[inForce]
-	for _, key := range []string{"agreed", want} {
+	for _, key := range []string{"agreed", want, "pool-equal"} {
 		for _, c := range choices {
 			if c.Value == key {
 				return key

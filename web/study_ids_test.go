@@ -268,3 +268,27 @@ func TestStudyWithoutAnAgreedPriorPlansUnderThePoolInForce(t *testing.T) {
 		t.Error("the first question is not planned under its agreed prior")
 	}
 }
+
+// Custom weights in force under which no pool forms (the one expert they
+// weigh has left; the others, weighed 0, count for nothing): the study
+// is planned under the equal-weight pool, not under the performance
+// weights only suggested, which it was as the last prior offered.
+func TestStudyPlansUnderTheEqualPoolWhenThePoolInForceDoesNotForm(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	if err := h.db.SetWeights(ctx, &workshop.Weights{WorkshopID: ws.ID, Scheme: workshop.WeightsCustom, Reason: "Invented: audits.",
+		ByExpert: map[int64]float64{es[0].ID: 1, es[1].ID: 0, es[2].ID: 0, es[3].ID: 0}}); err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.RevokeExpert(ctx, es[0].ID, "Invented: left the project."); err != nil {
+		t.Fatal(err)
+	}
+	_, body := h.get(studyPath(ws.ID, qs[1].ID))
+	if !strings.Contains(body, ">Performance-weight pool (suggested): Beta(") || strings.Contains(body, "Custom-weight pool (in force): Beta(") {
+		t.Fatal("the demo's second question no longer offers a suggested performance-weight pool and no pool under the custom weights")
+	}
+	m := regexp.MustCompile(`<h3>Planned under: ([^,<]+),`).FindStringSubmatch(body)
+	if m == nil || html.UnescapeString(m[1]) != "Equal-weight pool" {
+		t.Errorf("planned under %v; want the equal-weight pool", m)
+	}
+}
