@@ -107,7 +107,9 @@ func acceptsGzip(r *http.Request) bool {
 		if !strings.EqualFold(strings.TrimSpace(name), "gzip") {
 			continue
 		}
-		q := strings.ReplaceAll(strings.TrimSpace(params), " ", "")
+		// The quality's name is read in any case ("gzip;Q=0" refuses
+		// gzip too), as RFC 9110 writes parameter names.
+		q := strings.ToLower(strings.ReplaceAll(strings.TrimSpace(params), " ", ""))
 		return q != "q=0" && q != "q=0.0" && q != "q=0.00" && q != "q=0.000"
 	}
 	return false

@@ -147,3 +147,19 @@ func TestExpertPagesAreGzipped(t *testing.T) {
 		}
 	}
 }
+
+// acceptsGzip reads the quality as RFC 9110 writes it: the parameter's
+// name in any case, spaces around it, up to three decimals. "gzip;Q=0"
+// and "gzip; q = 0" refuse gzip as "gzip;q=0" does.
+func TestAcceptsGzip(t *testing.T) {
+	for header, want := range map[string]bool{
+		"gzip, deflate, br": true, "deflate, gzip;q=0.5": true, "GZIP": true, "gzip;q=1.0": true, "gzip;q=0.001": true,
+		"gzip;q=0": false, "gzip; q=0.000": false, "gzip;Q=0": false, "gzip ; q = 0": false, "identity": false, "": false, "br": false,
+	} {
+		r, _ := http.NewRequest(http.MethodGet, "/", nil)
+		r.Header.Set("Accept-Encoding", header)
+		if got := acceptsGzip(r); got != want {
+			t.Errorf("Accept-Encoding %q: %v, want %v", header, got, want)
+		}
+	}
+}
