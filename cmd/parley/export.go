@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"context"
 	"errors"
+	"fmt"
 	"io"
 	"io/fs"
 	"os"
@@ -134,6 +135,17 @@ func writeFileAtomic(path string, write func(io.Writer) error) (err error) {
 		if err != nil {
 			f.Close()
 			os.Remove(f.Name())
+			// The temporary file is no name the user gave: a full disk
+			// said "write …/.rec.json.1950597273: no space left on
+			// device".
+			var pe *fs.PathError
+			var le *os.LinkError
+			switch {
+			case errors.As(err, &pe) && pe.Path == f.Name():
+				err = fmt.Errorf("writing %s: %w; nothing was written there", name, pe.Err)
+			case errors.As(err, &le) && le.Old == f.Name():
+				err = fmt.Errorf("writing %s: %w; nothing was written there", name, le.Err)
+			}
 		}
 	}()
 	if err = writeBuffered(f, write); err != nil {

@@ -25,6 +25,7 @@ import (
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/store"
+	"github.com/parley-elicit/parley/web"
 )
 
 // cliWorkshop writes an invented workshop to a new database file: two
@@ -893,5 +894,43 @@ func TestStoreCommandsSayADamagedDatabaseIsDamaged(t *testing.T) {
 	}
 	if after, _ := os.ReadFile(torn); !bytes.Equal(after, b[:len(b)*2/3]) {
 		t.Error("a command changed the damaged file")
+	}
+}
+
+// TestExportCutShortNamesTheFileAsked: an export that fails as it is
+// written (a full disk, here a file-size limit) names the file asked for
+// and says nothing was written there; it named the temporary file it
+// writes first ("write …/.record.json.1950597273: file too large"), a
+// name the user never gave, and leaves neither behind.
+func TestExportCutShortNamesTheFileAsked(t *testing.T) {
+	// The invented demo, whose record is larger than the limit, while
+	// opening its database stays under it (as for the backup above).
+	path := filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(path)
+	check(t, err)
+	if _, err := web.SeedDemo(context.Background(), db); err != nil {
+		t.Fatal(err)
+	}
+	ws, err := db.Workshops(context.Background())
+	check(t, err)
+	check(t, db.Close())
+	bin := parleyBinary(t)
+	dir := t.TempDir()
+	out := filepath.Join(dir, "record.json")
+	// The Go runtime ignores SIGXFSZ, so the write past the limit fails
+	// with EFBIG instead of ending the process.
+	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@"`, bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10), "--out", out)
+	var errb bytes.Buffer
+	cmd.Stderr = &errb
+	err = cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitFailure {
+		t.Fatalf("export under a 64-block limit: %v, stderr %q; want exit 1", err, errb.String())
+	}
+	if msg := errb.String(); !strings.Contains(msg, "writing "+out+": ") || !strings.Contains(msg, "nothing was written there") || strings.Contains(msg, ".record.json.") {
+		t.Errorf("stderr %q: want the file asked for named, not the temporary one", msg)
+	}
+	if left, _ := os.ReadDir(dir); len(left) != 0 {
+		t.Errorf("a failed export left %v behind", left)
 	}
 }
