@@ -13,18 +13,20 @@ import (
 )
 
 func init() {
-	command("fingerprint", "list a JSON record's fingerprint at each round's close and now, or look for a noted one (--in, --check)", runFingerprint)
+	command("fingerprint", "list a JSON record's fingerprint at each round's close and now, or look for a noted one (--in, --check, --strict)", runFingerprint)
 }
 
 // runFingerprint recomputes the chain of a record's facts (package
 // fingerprint) and lists the fingerprint at each round's close and of the
 // whole record; with --check it says whether a value noted in the room
 // is one of the chain's values. Exit 0: listed, or found; 1: not found,
-// or the record's own chain disagrees with its facts; 2: bad input.
+// or the record's own chain disagrees with its facts (with --check, only
+// under --strict); 2: bad input.
 func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("fingerprint", stderr)
 	in := fs.String("in", "", "JSON record `file` (as parley export writes it), or - for standard input")
 	check := fs.String("check", "", "a noted `fingerprint`: 16 hex digits as the room was shown them (\"3f2a 91c0 7be4 0d15\") or all 64")
+	strict := fs.Bool("strict", false, "with --check, exit 1 when the value is found but the record disagrees with its facts (otherwise that is said on stderr and the exit is 0)")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
 	}
@@ -138,6 +140,11 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	}
 	if own != nil {
 		fmt.Fprintf(stderr, "parley fingerprint: but %s: %s\n", disagrees, errText(own))
+		if *strict {
+			// A script that trusts the exit status alone read such a
+			// record as sound.
+			return exitFailure
+		}
 	}
 	return exitOK
 }

@@ -398,6 +398,15 @@ func TestFingerprintAnswerAddedToAClosedRound(t *testing.T) {
 	if code != exitOK || !strings.Contains(out, noted+" matches") || !strings.Contains(errs, "parley fingerprint: but an answer comes after its round closed (it was added later): "+want) {
 		t.Errorf("fingerprint --check of round 1's value: exit %d, %q %q, want the match and, on stderr, %q", code, out, errs, want)
 	}
+	// --strict: the same, with exit 1, for a script that reads the exit
+	// status alone; a sound record still exits 0.
+	code, out, errs = run("fingerprint", "--check", noted, "--strict", "--in", forged)
+	if code != exitFailure || !strings.Contains(out, noted+" matches") || !strings.Contains(errs, want) {
+		t.Errorf("fingerprint --check --strict of round 1's value: exit %d, %q %q, want the match, exit 1 and, on stderr, %q", code, out, errs, want)
+	}
+	if code, _, errs := run("fingerprint", "--check", noted, "--strict", "--in", file); code != exitOK {
+		t.Errorf("fingerprint --check --strict of the record as exported: exit %d, %s", code, errs)
+	}
 	if code, _, errs := run("fingerprint", "--in", forged); code != exitFailure || !strings.Contains(errs, want) {
 		t.Errorf("fingerprint: exit %d, %q, want exit 1 and %q", code, errs, want)
 	}
