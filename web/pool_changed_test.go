@@ -93,3 +93,37 @@ func TestEqualWeightsAppliedAgainLeaveThePool(t *testing.T) {
 		}
 	}
 }
+
+// An expert the custom weights leave out (weight 0) counts for nothing
+// in the pool: a late expert answering under the weights a prior from
+// the pool was agreed under does not change it. The pages said "now in
+// the pool: Lena" beside the warning that her judgements count for
+// nothing in the pools.
+func TestLateExpertWeighedZeroLeavesThePool(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	_, link := h.addExpert(ws, "Lena Okafor (invented)")
+	if res, _ := h.post(expertPath(link)+"q/"+strconv.FormatInt(qs[0].ID, 10)+"/save",
+		url.Values{"values[0]": {"0.01"}, "values[1]": {"0.06"}, "values[2]": {"0.2"}, "reason": {"Invented."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("Lena answers: %d", res.StatusCode)
+	}
+	for _, page := range []string{qp, studyPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/report"} {
+		_, body := h.get(page)
+		if strings.Contains(body, "The pool has changed since this prior was agreed") {
+			t.Errorf("%s says the pool changed when only an expert weighed 0 answered", page)
+		}
+		if page != studyPath(ws.ID, qs[0].ID) && !strings.Contains(body, "Lena Okafor (invented) joined the panel") {
+			t.Errorf("%s does not say Lena has weight 0", page)
+		}
+	}
+}

@@ -18,7 +18,7 @@ func TestPoolChangeSince(t *testing.T) {
 	if c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13}, set5, nil, expertOf); !ok || c.Any() {
 		t.Errorf("the same pool: %+v, %v; want no change", c, ok)
 	}
-	set6 := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 1, 3: 1}}
+	set6 := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 1, 3: 1, 4: 1}}
 	c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 14, 4: 15}, set6, &set5, expertOf)
 	if !ok || fmt.Sprint(c.Revised, c.Joined, c.Left, c.Weights) != "[2] [4] [3] true" || !c.Any() {
 		t.Errorf("expert 2 revised, 4 answered, 3 revoked, weights changed: got %+v, %v", c, ok)
@@ -57,6 +57,31 @@ func TestPoolChangeSinceWeightsAlike(t *testing.T) {
 	}
 	if c, _ := under.PoolChangeSince(now, again, nil, expertOf); !c.Weights {
 		t.Error("another set, the earlier one not known: no change, want one")
+	}
+}
+
+// An expert with weight 0 counts for nothing in the pool, then or now:
+// a late expert the custom weights leave out answering, or one weighed 0
+// revising or leaving, does not change it.
+func TestPoolChangeSinceWeightZero(t *testing.T) {
+	expertOf := map[int64]int64{11: 1, 12: 2, 13: 3, 14: 3, 15: 4}
+	set := Weights{ID: 5, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 0}}
+	p := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12, 13}, WeightSetID: 5}
+	for _, then := range []*Weights{nil, &set} {
+		// Expert 4 answered since (not named: weight 0); expert 3 (weight 0) revised.
+		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 14, 4: 15}, set, then, expertOf); c.Any() {
+			t.Errorf("then %v: experts weighed 0 answering and revising: %+v, want no change", then != nil, c)
+		}
+		// Expert 3 (weight 0) left.
+		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12}, set, then, expertOf); c.Any() {
+			t.Errorf("then %v: an expert weighed 0 leaving: %+v, want no change", then != nil, c)
+		}
+	}
+	// Under other weights that give expert 4 a share, their answer is a change.
+	other := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 0, 4: 1}}
+	c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13, 4: 15}, other, &set, expertOf)
+	if fmt.Sprint(c.Revised, c.Joined, c.Left, c.Weights) != "[] [4] [] true" {
+		t.Errorf("expert 4 weighed in under other weights: %+v", c)
 	}
 }
 

@@ -143,17 +143,33 @@ func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weig
 		}
 		pooled[e] = rv
 	}
+	// An expert with weight 0 (custom weights that leave them out, or
+	// performance weights below the cut-off) counts for nothing in the
+	// pool: their answering, revising or leaving moves it not at all. A
+	// late expert with weight 0 under the custom weights the prior was
+	// agreed under was said to be "now in the pool" beside the warning
+	// that their judgements count for nothing in it.
+	nothingThen := func(e int64) bool {
+		switch {
+		case then != nil:
+			return then.Of(e) == 0
+		case in.ID == p.WeightSetID:
+			return in.Of(e) == 0
+		}
+		return false
+	}
+	nothingNow := func(e int64) bool { return in.Of(e) == 0 }
 	for e, rv := range pooled {
 		cur, ok := now[e]
 		switch {
-		case !ok:
+		case !ok && !nothingThen(e):
 			c.Left = append(c.Left, e)
-		case cur != rv:
+		case ok && cur != rv && !(nothingThen(e) && nothingNow(e)):
 			c.Revised = append(c.Revised, e)
 		}
 	}
 	for e := range now {
-		if _, ok := pooled[e]; !ok {
+		if _, ok := pooled[e]; !ok && !nothingNow(e) {
 			c.Joined = append(c.Joined, e)
 		}
 	}
