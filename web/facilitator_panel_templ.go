@@ -2181,7 +2181,7 @@ func agreedSection(v panelView) templ.Component {
 			return templ_7745c5c3_Err
 		}
 		if !v.Workshop.Archived && v.State.Question.Retired {
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 185, "<p>This question is retired, so no prior is agreed for it. Bring it back (below) to record one.</p>  ")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 185, "<p>This question is retired, so no prior can be recorded for it. Bring it back (below) to record one.</p>  ")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -162,7 +162,7 @@ func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st qu
 	if !ok {
 		return "", nil
 	}
-	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }), nil
+	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }, st.Question.Retired), nil
 }
 
 // weightSetByID is the set of sets with the given ID, or nil.
@@ -183,7 +183,11 @@ func weightSetByID(sets []workshop.Weights, id int64) *workshop.Weights {
 // said so: a prior agreed in round 1 sat under a round-2 pool with
 // another single Beta, both named "custom-weight pool". "" when nothing
 // changed.
-func poolChangeWords(c workshop.PoolChange, name func(int64) string) string {
+//
+// A retired question takes no new prior (CheckTakesPrior), so for one
+// the advice is to bring it back first: it said to record the prior
+// again on the question's page, which refuses it.
+func poolChangeWords(c workshop.PoolChange, name func(int64) string, retired bool) string {
 	if !c.Any() {
 		return ""
 	}
@@ -207,9 +211,13 @@ func poolChangeWords(c workshop.PoolChange, name func(int64) string) string {
 	if c.Weights {
 		parts = append(parts, "other weights are in force")
 	}
+	again := "record it again on the question's page"
+	if retired {
+		again = "bring the question back and record it again"
+	}
 	return "The pool has changed since this prior was agreed (" + strings.Join(parts, "; ") + "). " +
 		"The prior is still the single Beta of the pool as it stood then, not of the pool as it stands now; " +
-		"record it again on the question's page if the panel agrees the pool as it now stands."
+		again + " if the panel agrees the pool as it now stands."
 }
 
 // poolChange is questionState.poolChange for the report, read from the

@@ -19,7 +19,7 @@ func TestRetiredQuestionTakesNoPrior(t *testing.T) {
 		t.Fatalf("retire: %d %s", res.StatusCode, body)
 	}
 	_, body := h.get(qp)
-	if strings.Contains(body, `id="agree-form"`) || !strings.Contains(body, "This question is retired, so no prior is agreed for it.") {
+	if strings.Contains(body, `id="agree-form"`) || !strings.Contains(body, "This question is retired, so no prior can be recorded for it.") {
 		t.Error("a retired question's page offers the agree form, or does not say why it does not")
 	}
 	before, err := h.db.AgreedPriors(context.Background(), ws.ID)
@@ -43,5 +43,43 @@ func TestRetiredQuestionTakesNoPrior(t *testing.T) {
 	}
 	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Back (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Errorf("agreeing after bringing it back: %d %s", res.StatusCode, body)
+	}
+}
+
+// A retired question's prior from the pool stays agreed: its page says
+// no prior can be recorded (it said "no prior is agreed for it" under
+// the prior shown), and where the pool has changed since, the advice is
+// to bring the question back first, on the panel and in the report (it
+// said to record the prior again on the question's page, which refuses
+// it).
+func TestRetiredQuestionsPriorStaysAndItsAdviceHolds(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	if res, body := h.post(qp+"/retire", url.Values{"action": {"retire"}, "retire_reason": {"Out of scope (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("retire: %d %s", res.StatusCode, body)
+	}
+	_, panel := h.get(qp)
+	_, report := h.get(workshopPath(ws.ID) + "/report")
+	for name, body := range map[string]string{"panel": panel, "report": report} {
+		body = strings.ReplaceAll(body, "&#39;", "'")
+		if !strings.Contains(body, "The pool has changed since this prior was agreed (other weights are in force)") {
+			t.Errorf("%s: no word that the pool changed", name)
+		}
+		if strings.Contains(body, "record it again on the question's page") || !strings.Contains(body, "bring the question back and record it again") {
+			t.Errorf("%s: the advice for a retired question's prior is not to bring it back first", name)
+		}
+	}
+	if strings.Contains(panel, "no prior is agreed for it") {
+		t.Error("the panel says no prior is agreed for a retired question whose prior it shows")
 	}
 }
