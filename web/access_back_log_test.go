@@ -32,3 +32,29 @@ func TestLogSaysAccessWasGivenBack(t *testing.T) {
 		}
 	}
 }
+
+// An expert given access back after custom weights were set without
+// them has weight 0 under those weights (workshop.Weights.Unweighed):
+// the log says they count for nothing in the pools until the weights
+// are set again. It said their judgements counted in the pools again.
+func TestLogSaysAccessBackUnderWeightsWithoutThem(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	if res, _ := h.post(expertActionPath(ws.ID, es[3].ID, "revoke"), url.Values{"confirm": {"yes"}, "reason": {"Left (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d", res.StatusCode)
+	}
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for _, e := range es[:3] {
+		wf.Set(weightField(e.ID), "1")
+	}
+	if res, body := h.post(questionPath(ws.ID, qs[0].ID)+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	if res, _ := h.post(expertActionPath(ws.ID, es[3].ID, "reissue"), url.Values{"confirm": {"yes"}, "reason": {"Back (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reissue: %d", res.StatusCode)
+	}
+	_, body := h.get(workshopPath(ws.ID) + "/log")
+	if strings.Contains(body, "their judgements count in the pools again") ||
+		!strings.Contains(body, "Ole Brandt was given access back, with a new private link; the weights in force give them no share, so their judgements count for nothing in the pools until the weights are set again.") {
+		t.Error("the log says Ole's judgements count in the pools again under weights that give him none")
+	}
+}

@@ -57,7 +57,7 @@ func (s *Server) eventLog(w http.ResponseWriter, r *http.Request) {
 // the weights of the pool it came from, among the weight sets sets);
 // c is the record's fingerprint chain.
 func newLogView(ws workshop.Workshop, evs []workshop.Event, qs []workshop.Question, es []workshop.Expert, ps []workshop.AgreedPrior, revs []workshop.Revision, sets []workshop.Weights, c fingerprint.Chain) logView {
-	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, revoked: map[int64]bool{}, priors: ps, revisions: map[int64]workshop.Revision{}, weightSets: sets}
+	w := eventWriter{questions: map[int64]workshop.Question{}, experts: es, revealed: map[int64]bool{}, revoked: map[int64]bool{}, inForce: &eventDetail{}, priors: ps, revisions: map[int64]workshop.Revision{}, weightSets: sets}
 	for _, rv := range revs {
 		w.revisions[rv.ID] = rv
 	}
@@ -217,6 +217,11 @@ type eventWriter struct {
 	// working", of a link stopped long before, and not that the expert's
 	// judgements were back in every pool.
 	revoked map[int64]bool
+	// inForce is the weight set the log has reached (its scheme and
+	// weights; equal when none): an expert given access back whom it
+	// gives no weight (custom weights set while they were revoked) is
+	// back on the panel but counts for nothing in the pools.
+	inForce *eventDetail
 	priors  []workshop.AgreedPrior
 	// weightSets are the workshop's weight sets, oldest first, which name
 	// the pool a prior from the pool came from.
@@ -344,6 +349,11 @@ func (w eventWriter) sentence(e workshop.Event) string {
 				// A new link lifts the revocation (store.ReissueToken):
 				// every pool takes the expert's judgements again.
 				w.revoked[d.ExpertID] = false
+				if f := w.inForce; f != nil && (f.Scheme == workshop.WeightsCustom || f.Scheme == workshop.WeightsPerformance) &&
+					f.ByExpert[strconv.FormatInt(d.ExpertID, 10)] == 0 {
+					return w.expert(d.ExpertID) + " was given access back, with a new private link; the weights in force give them no share, " +
+						"so their judgements count for nothing in the pools until the weights are set again."
+				}
 				return w.expert(d.ExpertID) + " was given access back, with a new private link; their judgements count in the pools again."
 			}
 			return w.expert(d.ExpertID) + " was given a new private link; the old one stopped working."
@@ -361,6 +371,9 @@ func (w eventWriter) sentence(e workshop.Event) string {
 			return kind + ", asked as " + how + "."
 		}
 	case workshop.EventWeightsSet:
+		if w.inForce != nil {
+			*w.inForce = eventDetail{Scheme: d.Scheme, ByExpert: d.ByExpert}
+		}
 		return w.weights(d)
 	case workshop.EventPriorAgreed:
 		if d.Dist != nil {
