@@ -42,7 +42,12 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 	asPercent := q.IsProportion() && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
-		typedText, ambiguous := decimalComma(f.Value(name))
+		typedText, ambiguous := decimalComma(f.Value(name), func(x float64, pct bool) bool {
+			if q.IsProportion() && (pct || asPercent) {
+				x /= 100
+			}
+			return x >= q.Lower && x <= q.Upper
+		})
 		if ambiguous != "" {
 			f.set(name, ambiguous)
 			count++
@@ -63,7 +68,7 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		a.Lowest = value("lowest")
 		a.Highest = value("highest")
 		a.Best = value("best")
-		typedText, ambiguous := decimalComma(f.Value("confidence"))
+		typedText, ambiguous := decimalComma(f.Value("confidence"), func(x float64, _ bool) bool { return x >= 0 && x <= 100 })
 		c, err := workshop.ParseConfidence(typedText)
 		switch {
 		case ambiguous != "":
@@ -148,15 +153,28 @@ var commaDecimal = regexp.MustCompile(`^\s*([+-]?)([0-9]*),([0-9]+)\s*(%?)\s*$`)
 // point: "0,05" is 0.05 and "12,5%" is 12.5%, as the read-backs then show.
 // Three digits after a whole part of one to three digits other than 0
 // ("1,500") is also how a thousands separator writes 1500: that is not
-// guessed, and ambiguous says so, naming both readings. Anything else is
-// returned as typed, for the number rules to judge.
-func decimalComma(typed string) (text, ambiguous string) {
+// guessed, and ambiguous says so, naming both readings, unless the
+// field could not hold the thousands (possible(x, pct) false for it,
+// with pct a % sign typed): on a proportion "1,500" cannot be 1500, and
+// "1,250" typed as a percentage cannot be 1250%, so each is read with
+// its decimal comma; refused as ambiguous, the expert was told to type
+// "1250 without the comma", which the bounds then refused. A nil
+// possible takes every reading as possible. Anything else is returned as
+// typed, for the number rules to judge.
+func decimalComma(typed string, possible func(x float64, pct bool) bool) (text, ambiguous string) {
 	m := commaDecimal.FindStringSubmatch(typed)
 	if m == nil {
 		return typed, ""
 	}
 	sign, whole, frac, pct := m[1], m[2], m[3], m[4]
-	if len(frac) == 3 && whole != "" && len(whole) <= 3 && strings.Trim(whole, "0") != "" {
+	thousands := func() bool {
+		if possible == nil {
+			return true
+		}
+		x, err := strconv.ParseFloat(sign+whole+frac, 64)
+		return err == nil && possible(x, pct != "")
+	}
+	if len(frac) == 3 && whole != "" && len(whole) <= 3 && strings.Trim(whole, "0") != "" && thousands() {
 		point, thousands := sign+whole+"."+frac+pct, sign+whole+frac+pct
 		return typed, "“" + strings.TrimSpace(typed) + "” could be " + point + " or " + thousands + ": please type " + point + " with a point, or " + thousands + " without the comma."
 	}

@@ -28,10 +28,18 @@ func TestDecimalCommaFromAPhoneKeyboard(t *testing.T) {
 	if r, body := h.post(qp+"/preview?fragment=1", pct); r.StatusCode != http.StatusOK || !strings.Contains(body, "12.5%") {
 		t.Errorf("the fit of 2, 5,5 and 12,5%% in percent: %d %.600s", r.StatusCode, body)
 	}
+	// On a proportion the thousands reading cannot be meant: "1,250"
+	// typed as a percentage is 1.25%, not 1250%, and "1,500" typed as a
+	// proportion is 1.5, refused by the bounds, not as ambiguous with an
+	// advice to type 1500.
+	rare := url.Values{"unit": {"percent"}, "values[0]": {"0,5"}, "values[1]": {"1,250"}, "values[2]": {"4"}}
+	if r, body := h.post(qp+"/preview?fragment=1", rare); r.StatusCode != http.StatusOK || !strings.Contains(body, "1.25%") || strings.Contains(body, "could be") {
+		t.Errorf("1,250 typed as a percentage: %d %.600s", r.StatusCode, body)
+	}
 	amb := url.Values{"unit": {"proportion"}, "values[0]": {"0,02"}, "values[1]": {"0,05"}, "values[2]": {"1,500"}}
 	r, body := h.post(qp+"/save", amb)
-	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "“1,500” could be 1.500 or 1500: please type 1.500 with a point, or 1500 without the comma.") {
-		t.Errorf("1,500: %d; want it refused naming both readings; %.3000s", r.StatusCode, body)
+	if r.StatusCode != http.StatusUnprocessableEntity || strings.Contains(body, "could be 1.500 or 1500") || !strings.Contains(body, "Must be between 0 and 1 (0% and 100%); you typed 1,500.") {
+		t.Errorf("1,500 on a proportion: %d; want it read as 1.5 and refused by the bounds; %.3000s", r.StatusCode, body)
 	}
 	if r, body := h.post(qp+"/save", form); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("save 0,02, 0,05 and 0,12: %d %.600s", r.StatusCode, body)
@@ -67,7 +75,32 @@ func TestDecimalComma(t *testing.T) {
 		{"1.000,5", "1.000,5", ""},
 		{"", "", ""},
 	} {
-		text, amb := decimalComma(c.typed)
+		text, amb := decimalComma(c.typed, nil)
+		if text != c.text || amb != c.ambiguous {
+			t.Errorf("decimalComma(%q) = %q, %q; want %q, %q", c.typed, text, amb, c.text, c.ambiguous)
+		}
+	}
+	// Where the field cannot hold the thousands, the comma is the decimal.
+	upTo := func(upper float64) func(float64, bool) bool {
+		return func(x float64, pct bool) bool {
+			if pct {
+				x /= 100
+			}
+			return x >= 0 && x <= upper
+		}
+	}
+	for _, c := range []struct {
+		typed           string
+		upper           float64
+		text, ambiguous string
+	}{
+		{"1,500", 1, "1.500", ""},
+		{"12,500%", 1, "12.500%", ""},
+		{"1,500", 10000, "1,500", "“1,500” could be 1.500 or 1500: please type 1.500 with a point, or 1500 without the comma."},
+		{"1,500", 1500, "1,500", "“1,500” could be 1.500 or 1500: please type 1.500 with a point, or 1500 without the comma."},
+		{"1,500", 1499, "1.500", ""},
+	} {
+		text, amb := decimalComma(c.typed, upTo(c.upper))
 		if text != c.text || amb != c.ambiguous {
 			t.Errorf("decimalComma(%q) = %q, %q; want %q, %q", c.typed, text, amb, c.text, c.ambiguous)
 		}

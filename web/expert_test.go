@@ -354,7 +354,10 @@ func TestExpertBadInputIsRefusedBesideTheField(t *testing.T) {
 		{"decreasing", g.q, quantiles("0.05", "0.01", "0.4"), "f-values-1", "Must be larger than your 5% value.", "0.01"},
 		{"outside bounds", g.q, quantiles("0.05", "0.2", "1.5"), "f-values-2", "Must be between 0 and 1 (0% and 100%); you typed 1.5. Did you mean 1.5%?", "1.5"},
 		{"not a number", g.q, quantiles("0.05", "abc", "0.4"), "f-values-1", "“abc” is not a number Parley can read.", "abc"},
-		{"a comma that may be a thousands separator", g.q, quantiles("1,500", "0.2", "0.4"), "f-values-0", "“1,500” could be 1.500 or 1500: please type 1.500 with a point, or 1500 without the comma.", "1,500"},
+		// On a proportion 1,500 cannot be 1500: it is read as 1.5 and the
+		// bounds refuse it (decimalComma; TestDecimalComma for bounds
+		// that could hold 1500).
+		{"a comma before three digits on a proportion", g.q, quantiles("1,500", "0.2", "0.4"), "f-values-0", "Must be between 0 and 1 (0% and 100%); you typed 1,500.", "1,500"},
 		{"two points", g.q, quantiles("0..05", "0.2", "0.4"), "f-values-0", "“0..05” is not a number Parley can read.", "0..05"},
 		{"empty", g.q, quantiles("0.05", "", "0.4"), "f-values-1", "Please fill this in.", "0.05"},
 		{"confidence over 100%", g.qi, url.Values{"lowest": {"0.1"}, "highest": {"0.5"}, "best": {"0.2"}, "confidence": {"120"}},
