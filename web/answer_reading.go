@@ -524,7 +524,10 @@ func strictlyBetween(q workshop.Question, f *Form) string {
 // 0.08 there, meaning proportions, had them read as 0.02%, 0.04% and
 // 0.08%, said only by the first read-back. Where every value was typed
 // without a % sign and at most 1, the preview says how they are read and
-// what the largest would be as a proportion. A rare event's percentages
+// what the largest would be as a proportion; typed with a % sign, every
+// value must have one (the warning said "or type 8%", and an expert who
+// did so for the largest alone kept 0.02% and 0.04% beside it, with no
+// warning left, since a value with its sign ends it). A rare event's percentages
 // meet the warning too; it asks nothing of them. "" where it does not
 // apply.
 func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) string {
@@ -556,5 +559,5 @@ func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) strin
 	typed := strings.TrimSpace(f.Value(names[largest]))
 	return sp.pick("You chose percentages, so ", "The form is set to percentages, so ") + typed + " is read as " + typed + "%. " +
 		sp.pick("If you meant", "If %s meant") + " proportions, " + typed + " is " + chart.FormatPercent(values[largest]*100) +
-		": choose “As proportions” above, or type " + chart.FormatPercent(values[largest]*100) + "."
+		": choose “As proportions” above, or type every value as a percentage with its % sign, such as " + chart.FormatPercent(values[largest]*100) + "."
 }

@@ -17,7 +17,7 @@ import (
 func TestProportionsTypedAsPercentagesAreCalledOut(t *testing.T) {
 	h, ws, qs, es, links := seeded(t)
 	qp := links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)
-	const warning = "You chose percentages, so 0.08 is read as 0.08%. If you meant proportions, 0.08 is 8%: choose “As proportions” above, or type 8%."
+	const warning = "You chose percentages, so 0.08 is read as 0.08%. If you meant proportions, 0.08 is 8%: choose “As proportions” above, or type every value as a percentage with its % sign, such as 8%."
 	for _, c := range []struct {
 		unit   string
 		values []string
