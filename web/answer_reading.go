@@ -42,12 +42,7 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 	asPercent := q.IsProportion() && f.Value("unit") == unitPercent
 	typed, count := 0, 0
 	value := func(name string) float64 {
-		typedText, ambiguous := decimalComma(f.Value(name), func(x float64, pct bool) bool {
-			if q.IsProportion() && (pct || asPercent) {
-				x /= 100
-			}
-			return x >= q.Lower && x <= q.Upper
-		})
+		typedText, ambiguous := decimalComma(f.Value(name), possibleReading(q, name, asPercent))
 		if ambiguous != "" {
 			f.set(name, ambiguous)
 			count++
@@ -68,7 +63,7 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 		a.Lowest = value("lowest")
 		a.Highest = value("highest")
 		a.Best = value("best")
-		typedText, ambiguous := decimalComma(f.Value("confidence"), func(x float64, _ bool) bool { return x >= 0 && x <= 100 })
+		typedText, ambiguous := decimalComma(f.Value("confidence"), possibleReading(q, "confidence", false))
 		c, err := workshop.ParseConfidence(typedText)
 		switch {
 		case ambiguous != "":
@@ -181,6 +176,26 @@ func decimalComma(typed string, possible func(x float64, pct bool) bool) (text, 
 	return sign + whole + "." + frac + pct, ""
 }
 
+// possibleReading is decimalComma's possible for the field name of q:
+// whether x (pct: typed with a % sign) could be the field's value, so
+// that a thousands reading it cannot hold is not offered. The confidence
+// is a percentage from 0 to 100; a value lies within q's bounds, read as
+// a percentage on a proportion where it has its sign or the expert chose
+// percentages (asPercent). Every reading of a typed value (the answer,
+// the words of its refusal, the box it is shown back in) takes the same
+// one, so that all read "1,250" alike.
+func possibleReading(q workshop.Question, name string, asPercent bool) func(x float64, pct bool) bool {
+	if name == "confidence" {
+		return func(x float64, _ bool) bool { return x >= 0 && x <= 100 }
+	}
+	return func(x float64, pct bool) bool {
+		if q.IsProportion() && (pct || asPercent) {
+			x /= 100
+		}
+		return x >= q.Lower && x <= q.Upper
+	}
+}
+
 // comparedWith is the field a value must exceed ("" for none).
 func comparedWith(field string) string {
 	switch field {
@@ -262,7 +277,7 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 		}
 		msg := "Must be " + between + "; you typed " + typed + "."
 		// Read as the value was ("5,5" is 5.5, decimalComma).
-		asRead, _ := decimalComma(typed)
+		asRead, _ := decimalComma(typed, possibleReading(q, ie.Field, q.IsProportion() && f.Value("unit") == unitPercent))
 		if v, err := strconv.ParseFloat(strings.TrimSuffix(asRead, "%"), 64); err == nil && q.IsProportion() && v > 1 && v < 100 && !strings.HasSuffix(typed, "%") {
 			msg += " Did you mean " + typed + "%? Type " + typed + "% or choose percentages above."
 		}
@@ -499,7 +514,7 @@ func expertWarnings(q workshop.Question, fit elicit.Fit, percent bool, sp speake
 // bounds, which a value may not be: the rule is strictly between.
 func atBound(q workshop.Question, f *Form, field string) bool {
 	// Read as readAnswer read it: "1,0" is at the end as "1.0" is.
-	typed, _ := decimalComma(f.Value(field))
+	typed, _ := decimalComma(f.Value(field), possibleReading(q, field, q.IsProportion() && f.Value("unit") == unitPercent))
 	v, _, err := workshop.ParseAnswerNumber(field, typed, q, q.IsProportion() && f.Value("unit") == unitPercent)
 	return err == nil && (v == q.Lower || v == q.Upper)
 }

@@ -117,6 +117,9 @@ func TestDecimalCommaRefusedInTheWordsOfThePoint(t *testing.T) {
 	qp := links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)
 	for _, c := range []struct{ last, want string }{
 		{"1,0", "not at either end; you typed 1,0."},
+		// Three decimals: on a proportion no thousands reading, so the
+		// answer reads 1.000, and so do its words.
+		{"1,000", "not at either end; you typed 1,000."},
 		{"5,5", "Did you mean 5,5%? Type 5,5% or choose percentages above."},
 	} {
 		form := url.Values{"unit": {"proportion"}, "values[0]": {"0,02"}, "values[1]": {"0,05"}, "values[2]": {c.last}}

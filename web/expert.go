@@ -451,7 +451,7 @@ func besidePercentSign(q workshop.Question, name, typed string) (string, string)
 	}
 	rest = strings.TrimSpace(rest)
 	read := func(v string) (float64, error) {
-		v, _ = decimalComma(v) // as readAnswer reads it: "0,8%" is 0.8%
+		v, _ = decimalComma(v, possibleReading(q, name, true)) // as readAnswer reads it: "0,8%" is 0.8%
 		if name == "confidence" {
 			return workshop.ParseConfidence(v)
 		}
