@@ -58,6 +58,22 @@ func TestPoolChangeSinceWeightsAlike(t *testing.T) {
 	if c, _ := under.PoolChangeSince(now, again, nil, expertOf); !c.Weights {
 		t.Error("another set, the earlier one not known: no change, want one")
 	}
+	// Weights are relative: 2 and 6 give the shares 1 and 3 gave, and an
+	// expert left out is one weighed 0; 1 and 2 give others.
+	for _, c := range []struct {
+		by     map[int64]float64
+		change bool
+	}{
+		{map[int64]float64{1: 2, 2: 6}, false},
+		{map[int64]float64{1: 0.25, 2: 0.75, 5: 0}, false},
+		{map[int64]float64{1: 1, 2: 2}, true},
+		{map[int64]float64{1: 1, 2: 3, 5: 1}, true},
+	} {
+		scaled := Weights{ID: 4, Scheme: WeightsCustom, ByExpert: c.by}
+		if got, _ := under.PoolChangeSince(now, scaled, &custom, expertOf); got.Weights != c.change {
+			t.Errorf("custom weights %v after %v: a change %v, want %v", c.by, custom.ByExpert, got.Weights, c.change)
+		}
+	}
 }
 
 // An expert with weight 0 counts for nothing in the pool, then or now:

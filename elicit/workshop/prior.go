@@ -188,13 +188,41 @@ func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weig
 
 // sameWeights reports whether two weight sets weigh every expert alike:
 // both equal weights (a set of equal weights applied again, or applied
-// where none had been), or the same scheme with the same weights.
+// where none had been), or the same scheme giving every expert the same
+// share. Weights are relative (each share is its weight over their sum),
+// so custom weights set again at another scale (2 and 6 after 1 and 3)
+// form the same pool; they were said to be other weights in force. An
+// expert missing from a set has weight 0 in it.
 func sameWeights(a, b Weights) bool {
 	eq := func(w Weights) bool { return w.Scheme == WeightsEqual || w.Scheme == "" }
 	if eq(a) || eq(b) {
 		return eq(a) && eq(b)
 	}
-	return a.Scheme == b.Scheme && maps.Equal(a.ByExpert, b.ByExpert)
+	if a.Scheme != b.Scheme {
+		return false
+	}
+	sum := func(w map[int64]float64) float64 {
+		t := 0.0
+		for _, x := range w {
+			t += x
+		}
+		return t
+	}
+	sa, sb := sum(a.ByExpert), sum(b.ByExpert)
+	if !(sa > 0 && sb > 0) {
+		return maps.Equal(a.ByExpert, b.ByExpert)
+	}
+	// Shares that agree to rounding: 1/4 and 2/8 are one share however
+	// the division rounds.
+	alike := func(x, y map[int64]float64, sx, sy float64) bool {
+		for id, w := range x {
+			if d := w/sx - y[id]/sy; math.Abs(d) > 1e-12 {
+				return false
+			}
+		}
+		return true
+	}
+	return alike(a.ByExpert, b.ByExpert, sa, sb) && alike(b.ByExpert, a.ByExpert, sb, sa)
 }
 
 // RuleRetiredNoPrior refuses a prior agreed for a retired question.
