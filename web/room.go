@@ -184,26 +184,22 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 				first++
 			}
 		}
+		// Revisions come from experts with an earlier answer, first
+		// answers from the others. Before anyone saves, the count speaks
+		// of revisions only where an active expert has one to revise: on
+		// a question nobody had answered (added since the last close, or
+		// skipped by all in round 1) "No expert has revised" stood under
+		// "Nobody had answered this question when round 1 closed."
+		waiting := false
+		for id := range had {
+			waiting = waiting || !revoked[id]
+		}
 		verb := "answered"
 		switch {
-		case ws.Round == 1, revised == 0 && first > 0:
-		case first > 0:
+		case revised > 0 && first > 0:
 			verb = "answered or revised"
-		case revised > 0:
+		case revised > 0, first == 0 && waiting:
 			verb = "revised"
-		default:
-			// Nobody yet: revisions are to come where an active expert
-			// has an answer from an earlier round; on a question nobody
-			// answered then (one added since the last close, or one
-			// nobody answered in round 1) first answers are, and
-			// "No expert has revised" stood under "Nobody had answered
-			// this question when round 1 closed."
-			for id := range had {
-				if !revoked[id] {
-					verb = "revised"
-					break
-				}
-			}
 		}
 		v.Progress = roomProgress(revised+first, active, verb, ws.Round)
 	default:

@@ -1,7 +1,6 @@
 package web
 
 import (
-	"encoding/json"
 	"strconv"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -19,10 +18,7 @@ func addedAfterClose(evs []workshop.Event, qID int64, round int) bool {
 	for i, e := range evs {
 		switch e.Kind {
 		case workshop.EventRoundClosed:
-			var d struct {
-				Round int `json:"round"`
-			}
-			if json.Unmarshal([]byte(e.Detail), &d) == nil && d.Round == round {
+			if r, ok := e.Round(); ok && r == round {
 				closed = i
 			}
 		case workshop.EventQuestionAdded:

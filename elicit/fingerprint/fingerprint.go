@@ -271,16 +271,10 @@ func Start(w workshop.Workshop) Value {
 // closedRound is the round a round_closed event closed, from its detail
 // ({"round": N}); 0 for other events.
 func closedRound(e workshop.Event) int {
-	if e.Kind != workshop.EventRoundClosed {
-		return 0
+	if r, ok := e.Round(); ok && e.Kind == workshop.EventRoundClosed {
+		return r
 	}
-	var d struct {
-		Round int `json:"round"`
-	}
-	if json.Unmarshal([]byte(e.Detail), &d) != nil || d.Round < 1 {
-		return 0
-	}
-	return d.Round
+	return 0
 }
 
 // enc appends the canonical encoding's parts.

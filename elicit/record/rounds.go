@@ -2,7 +2,6 @@ package record
 
 import (
 	"cmp"
-	"encoding/json"
 	"fmt"
 	"slices"
 	"time"
@@ -51,21 +50,16 @@ func (r Record) CheckRounds() error {
 	var items []item
 	opened := map[int]bool{1: true} // a workshop is created in round 1, open
 	for _, e := range r.Events {
-		if e.Kind != workshop.EventRoundClosed && e.Kind != workshop.EventRoundReopened && e.Kind != workshop.EventRoundOpened {
-			continue
-		}
-		var d struct {
-			Round int `json:"round"`
-		}
-		if json.Unmarshal([]byte(e.Detail), &d) != nil || d.Round < 1 {
+		round, ok := e.Round()
+		if !ok {
 			continue
 		}
 		if e.Kind == workshop.EventRoundOpened {
-			opened[d.Round] = true
+			opened[round] = true
 			continue
 		}
 		items = append(items, item{at: e.At, rank: 5, id: e.ID,
-			step: step{rev: -1, close: e.Kind == workshop.EventRoundClosed, round: d.Round}})
+			step: step{rev: -1, close: e.Kind == workshop.EventRoundClosed, round: round}})
 	}
 	if len(items) == 0 {
 		return nil
