@@ -1,7 +1,6 @@
 package web
 
 import (
-	"context"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -21,23 +20,9 @@ func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
 	h, ws, qs, _, links := seeded(t)
 	wp := workshopPath(ws.ID)
 	// A question nobody answers in round 1, asked from its start.
-	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Asked in round 1 (invented)?"}, "quantity": {"spares used"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("add a question: %d %s", res.StatusCode, body)
-	}
-	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("close: %d", res.StatusCode)
-	}
-	if res, _ := h.post(wp+"/round", url.Values{"action": {"open"}, "reason": {"Round 2 (invented)."}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("open: %d", res.StatusCode)
-	}
-	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Added in round 2 (invented)?"}, "quantity": {"boards swapped"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("add a question: %d %s", res.StatusCode, body)
-	}
-	all, err := h.db.Questions(context.Background(), ws.ID)
-	if err != nil {
-		t.Fatal(err)
-	}
-	early, late := all[len(all)-2], all[len(all)-1]
+	early := h.addQuantileQuestion(t, ws.ID, "Asked in round 1 (invented)?", "spares used")
+	h.nextRound(t, ws.ID)
+	late := h.addQuantileQuestion(t, ws.ID, "Added in round 2 (invented)?", "boards swapped")
 	answer := url.Values{"values[0]": {"0.01"}, "values[1]": {"0.05"}, "values[2]": {"0.2"}}
 	for _, q := range []int64{early.ID, late.ID, qs[0].ID} {
 		if res, _ := h.post(links[0].Path+"q/"+strconv.FormatInt(q, 10)+"/save", answer); res.StatusCode != http.StatusSeeOther {
@@ -107,21 +92,8 @@ func TestAddedAfterCloseReadsTheLastClose(t *testing.T) {
 // expert had answered, the same count still says "revised".
 func TestRoomOfAQuestionNobodyAnsweredSaysAnsweredNotRevised(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
-	wp := workshopPath(ws.ID)
-	if res, body := h.post(wp+"/questions", url.Values{"wording": {"Asked in round 1, answered by nobody (invented)?"}, "quantity": {"spares used"}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("add a question: %d %s", res.StatusCode, body)
-	}
-	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("close: %d", res.StatusCode)
-	}
-	if res, _ := h.post(wp+"/round", url.Values{"action": {"open"}, "reason": {"Round 2 (invented)."}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("open: %d", res.StatusCode)
-	}
-	all, err := h.db.Questions(context.Background(), ws.ID)
-	if err != nil {
-		t.Fatal(err)
-	}
-	unanswered := all[len(all)-1]
+	unanswered := h.addQuantileQuestion(t, ws.ID, "Asked in round 1, answered by nobody (invented)?", "spares used")
+	h.nextRound(t, ws.ID)
 	_, body := h.get(roomPath(ws.ID, unanswered.ID))
 	if want := "No expert has answered this question in round 2 yet."; !strings.Contains(body, want) || strings.Contains(body, "revised") {
 		t.Errorf("room of a question nobody answered in round 1: want %q, and no word of revising", want)

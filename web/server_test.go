@@ -385,3 +385,28 @@ func TestSessionExpires(t *testing.T) {
 		t.Fatalf("expired session: %d, want a redirect to sign in", res.StatusCode)
 	}
 }
+
+// addQuantileQuestion adds a 5/50/95 question on a proportion to the
+// workshop, as the facilitator's form does, and returns it.
+func (h *harness) addQuantileQuestion(t *testing.T, wsID int64, wording, quantity string) workshop.Question {
+	t.Helper()
+	if res, body := h.post(workshopPath(wsID)+"/questions", url.Values{"wording": {wording}, "quantity": {quantity}, "lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("add a question: %d %s", res.StatusCode, body)
+	}
+	all, err := h.db.Questions(context.Background(), wsID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	return all[len(all)-1]
+}
+
+// nextRound closes the open round and opens the next, as the
+// facilitator's rounds card does.
+func (h *harness) nextRound(t *testing.T, wsID int64) {
+	t.Helper()
+	for _, f := range []url.Values{{"action": {"close"}}, {"action": {"open"}, "reason": {"The next round (invented)."}}} {
+		if res, body := h.post(workshopPath(wsID)+"/round", f); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("round %s: %d %s", f.Get("action"), res.StatusCode, body)
+		}
+	}
+}
