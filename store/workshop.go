@@ -135,6 +135,7 @@ func (db *DB) Workshops(ctx context.Context) ([]workshop.Workshop, error) {
 
 // SetRound closes the current round (open false) or opens round n (open
 // true, n the current round plus one), with its event, in one transaction.
+// A round closes only while a question is in use (Workshop.CheckCloseAsked).
 func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bool, reason string) error {
 	return db.write(ctx, func(tx *sql.Tx) error {
 		w, err := scanWorkshop(tx.QueryRowContext(ctx,
@@ -147,6 +148,16 @@ func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bo
 		}
 		if err := w.CheckRoundChange(round, open); err != nil {
 			return err
+		}
+		if !open {
+			var inUse int
+			if err := tx.QueryRowContext(ctx, `SELECT COUNT(*) FROM questions WHERE workshop_id = ? AND retired = 0`,
+				workshopID).Scan(&inUse); err != nil {
+				return fmt.Errorf("store: count questions: %w", err)
+			}
+			if err := w.CheckCloseAsked(inUse); err != nil {
+				return err
+			}
 		}
 		kind := workshop.EventRoundClosed
 		if open {

@@ -9,7 +9,8 @@ import (
 
 // changeRound closes the open round, opens the next one, or reopens the
 // round just closed (action=reopen, for a round closed by mistake). The
-// rules are elicit's (Workshop.CheckRoundChange, Workshop.CheckReopen); a
+// rules are elicit's (Workshop.CheckRoundChange, Workshop.CheckCloseAsked,
+// Workshop.CheckReopen); a
 // reason is required to open or reopen a round so the record says why.
 func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	ws, ok := s.loadWorkshop(w, r)
@@ -30,6 +31,14 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	}
 	if f.OK() {
 		f.Fail(ws.CheckRoundChange(round, opening), map[string]string{"round": "action"})
+	}
+	if f.OK() && !opening {
+		qs, err := s.store.Questions(r.Context(), ws.ID)
+		if err != nil {
+			s.fail(w, r, err)
+			return
+		}
+		f.Fail(ws.CheckCloseAsked(len(questionsInUse(qs))), map[string]string{"round": "action"})
 	}
 	if !f.OK() {
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RoundForm: f})

@@ -216,9 +216,12 @@ func (s *Server) editWorkshop(w http.ResponseWriter, r *http.Request) {
 }
 
 // activeQuestions are the questions not retired, which experts see.
-func (v workshopView) activeQuestions() []workshop.Question {
+func (v workshopView) activeQuestions() []workshop.Question { return questionsInUse(v.Questions) }
+
+// questionsInUse are the questions of qs not retired, which experts see.
+func questionsInUse(qs []workshop.Question) []workshop.Question {
 	var out []workshop.Question
-	for _, q := range v.Questions {
+	for _, q := range qs {
 		if !q.Retired {
 			out = append(out, q)
 		}

@@ -35,6 +35,20 @@ func (w Workshop) CheckRoundChange(round int, open bool) error {
 	return nil
 }
 
+// RuleNothingAsked is the rule that a round closes only once it has asked
+// something: a round closed with no question in use fed nothing back,
+// and left the record a round nobody could answer.
+const RuleNothingAsked elicit.Rule = "a round closes only once a question is in use"
+
+// CheckCloseAsked reports whether the open round may close while the
+// workshop has inUse questions in use (not retired).
+func (w Workshop) CheckCloseAsked(inUse int) error {
+	if inUse < 1 {
+		return inputErr("round", RuleNothingAsked, "round %d has no question in use to answer: add one, or bring back a retired one, before closing it", w.Round)
+	}
+	return nil
+}
+
 // FeedbackRound is the round whose judgements are fed back to the panel
 // during w's current round, or 0 when there is none (round 1). Delphi
 // feedback is controlled: through round r every expert sees the panel as
