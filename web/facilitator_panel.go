@@ -384,7 +384,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 		v.Done = s.takeConfirmation(w, r, questionPath(ws.ID, q.ID), doneCorrected, doneRestored)
 	}
 	v.Strength = panelStrength(d)
-	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, st, d.Experts); err != nil {
+	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, st, d.Experts, againAt{OnQuestionPage: true}); err != nil {
 		s.fail(w, r, err)
 		return
 	}

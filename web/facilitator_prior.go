@@ -140,7 +140,7 @@ func (st questionState) poolChange(then *workshop.Weights) (workshop.PoolChange,
 // named from es; "" when the pool under its agreed prior has not
 // changed. The weight set the prior was agreed under is read only when
 // another is in force.
-func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st questionState, es []workshop.Expert) (string, error) {
+func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st questionState, es []workshop.Expert, at againAt) (string, error) {
 	a := st.current()
 	if a == nil || a.Source != workshop.PriorFromPool {
 		return "", nil
@@ -162,7 +162,8 @@ func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st qu
 	if !ok {
 		return "", nil
 	}
-	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }, st.Question.Retired), nil
+	at.Retired, at.Archived = st.Question.Retired, ws.Archived
+	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }, at), nil
 }
 
 // weightSetByID is the set of sets with the given ID, or nil.
@@ -184,10 +185,11 @@ func weightSetByID(sets []workshop.Weights, id int64) *workshop.Weights {
 // another single Beta, both named "custom-weight pool". "" when nothing
 // changed.
 //
-// A retired question takes no new prior (CheckTakesPrior), so for one
-// the advice is to bring it back first: it said to record the prior
-// again on the question's page, which refuses it.
-func poolChangeWords(c workshop.PoolChange, name func(int64) string, retired bool) string {
+// A retired question takes no new prior (CheckTakesPrior), nor does an
+// archived workshop, so for one the advice is to bring it back first: it
+// said to record the prior again on the question's page, which refused
+// it, and said so on that page itself (againAt).
+func poolChangeWords(c workshop.PoolChange, name func(int64) string, at againAt) string {
 	if !c.Any() {
 		return ""
 	}
@@ -211,13 +213,32 @@ func poolChangeWords(c workshop.PoolChange, name func(int64) string, retired boo
 	if c.Weights {
 		parts = append(parts, "other weights are in force")
 	}
-	again := "record it again on the question's page"
-	if retired {
-		again = "bring the question back and record it again"
-	}
 	return "The pool has changed since this prior was agreed (" + strings.Join(parts, "; ") + "). " +
 		"The prior is still the single Beta of the pool as it stood then, not of the pool as it stands now; " +
-		again + " if the panel agrees the pool as it now stands."
+		at.words() + " if the panel agrees the pool as it now stands."
+}
+
+// againAt is where a pool-changed note is read, for its advice on
+// recording the prior again: on the question's own page the form is
+// below the note; elsewhere (the study page, the report) it is on the
+// question's page; a retired question, or an archived workshop, takes no
+// prior until it is brought back.
+type againAt struct {
+	OnQuestionPage, Retired, Archived bool
+}
+
+func (at againAt) words() string {
+	switch {
+	case at.Archived && at.Retired:
+		return "bring the workshop back, then the question, and record it again"
+	case at.Archived:
+		return "bring the workshop back and record it again on the question's page"
+	case at.Retired:
+		return "bring the question back and record it again"
+	case at.OnQuestionPage:
+		return "record it again below"
+	}
+	return "record it again on the question's page"
 }
 
 // poolChange is questionState.poolChange for the report, read from the

@@ -1138,9 +1138,9 @@ func reportQuestion(v reportView, q record.Question) templ.Component {
 					return templ_7745c5c3_Err
 				}
 				var templ_7745c5c3_Var55 string
-				templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(poolChangeWords(c, v.name, q.Retired))
+				templ_7745c5c3_Var55, templ_7745c5c3_Err = templ.JoinStringErrs(poolChangeWords(c, v.name, againAt{Retired: q.Retired, Archived: v.Record.Workshop.Archived}))
 				if templ_7745c5c3_Err != nil {
-					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 308, Col: 64}
+					return templ.Error{Err: templ_7745c5c3_Err, FileName: `web/facilitator_report.templ`, Line: 308, Col: 120}
 				}
 				_, templ_7745c5c3_Err = templ_7745c5c3_Buffer.WriteString(templ.EscapeString(templ_7745c5c3_Var55))
 				if templ_7745c5c3_Err != nil {

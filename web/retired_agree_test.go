@@ -83,3 +83,61 @@ func TestRetiredQuestionsPriorStaysAndItsAdviceHolds(t *testing.T) {
 		t.Error("the panel says no prior is agreed for a retired question whose prior it shows")
 	}
 }
+
+// The pool-changed note's advice fits where it is read: on the
+// question's page the form to record the prior is just below it; the
+// study page and the report send the facilitator to the question's page;
+// an archived workshop takes no prior until it is brought back. The
+// question's page had said "record it again on the question's page" of
+// itself, and an archived workshop's pages offered a recording no page
+// could take.
+func TestPoolChangedAdviceFitsWhereItIsRead(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	qp := questionPath(ws.ID, qs[0].ID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	advice := func(page string) string {
+		_, body := h.get(page)
+		body = strings.ReplaceAll(body, "&#39;", "'")
+		const lead = "not of the pool as it stands now; "
+		i := strings.Index(body, lead)
+		if i < 0 {
+			t.Fatalf("%s: no pool-changed note", page)
+		}
+		rest := body[i+len(lead):]
+		return rest[:strings.Index(rest, " if the panel agrees")]
+	}
+	for page, want := range map[string]string{
+		qp:                              "record it again below",
+		studyPath(ws.ID, qs[0].ID):      "record it again on the question's page",
+		workshopPath(ws.ID) + "/report": "record it again on the question's page",
+	} {
+		if got := advice(page); got != want {
+			t.Errorf("%s advises %q, want %q", page, got, want)
+		}
+	}
+	if r, _ := h.post(workshopPath(ws.ID)+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Finished (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d", r.StatusCode)
+	}
+	for _, page := range []string{qp, studyPath(ws.ID, qs[0].ID), workshopPath(ws.ID) + "/report"} {
+		if got, want := advice(page), "bring the workshop back and record it again on the question's page"; got != want {
+			t.Errorf("archived, %s advises %q, want %q", page, got, want)
+		}
+	}
+}
+
+// A retired question of an archived workshop needs both brought back,
+// the workshop first (it changes nothing while archived).
+func TestPoolChangedAdviceOnARetiredQuestionOfAnArchivedWorkshop(t *testing.T) {
+	if got, want := (againAt{OnQuestionPage: true, Retired: true, Archived: true}).words(), "bring the workshop back, then the question, and record it again"; got != want {
+		t.Errorf("got %q, want %q", got, want)
+	}
+}

@@ -193,7 +193,7 @@ func (s *Server) showStudy(w http.ResponseWriter, r *http.Request, ws workshop.W
 		df = newForm(nil)
 	}
 	v := buildStudy(r.Context(), d, q, data, df, newForm(r.URL.Query()))
-	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, d.state(q), d.Experts); err != nil {
+	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, d.state(q), d.Experts, againAt{}); err != nil {
 		s.fail(w, r, err)
 		return
 	}
