@@ -2088,15 +2088,17 @@ func retiredTargets(r record.Record) []record.Question {
 }
 
 // retiredWithPrior names the retired target questions that have an
-// agreed prior ("Q1", "Q4"), which the table above leaves out while the
-// agreed-priors CSV keeps them, marked retired.
+// agreed prior ("Q1 (repair time)"), which the table above leaves out
+// while the agreed-priors CSV keeps them, marked retired. The quantity
+// goes in brackets, as it may hold commas of its own; "Q7" alone sent
+// the reader of a printed record looking for which question that was.
 // The table said "This workshop has no target questions" of a workshop
 // whose one target question, retired, had a prior the CSV carried.
 func retiredWithPrior(r record.Record) []string {
 	var names []string
 	for _, q := range retiredTargets(r) {
 		if q.AgreedPrior != nil {
-			names = append(names, "Q"+strconv.Itoa(q.Position))
+			names = append(names, "Q"+strconv.Itoa(q.Position)+" ("+q.Quantity+")")
 		}
 	}
 	return names

@@ -25,7 +25,7 @@ func TestRetiredQuestionsPriorIsMarked(t *testing.T) {
 	i := strings.Index(body, `id="agreed-priors"`)
 	summary := body[i : i+strings.Index(body[i:], "</section>")]
 	if strings.Contains(summary, "no target questions") || !strings.Contains(summary, "Every target question of this workshop is retired.") ||
-		!strings.Contains(summary, "Not listed: Q1, retired, with its agreed prior kept under the question below.") {
+		!strings.Contains(summary, "Not listed: Q1 (first-year failure proportion, HX-40), retired, with its agreed prior kept under the question below.") {
 		t.Errorf("the report's agreed priors, Q1 retired:\n%s", summary)
 	}
 	_, text := h.get(wp + "/priors.csv")
