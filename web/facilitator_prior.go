@@ -9,7 +9,6 @@ import (
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
-	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -239,29 +238,4 @@ func (at againAt) words() string {
 		return "record it again below"
 	}
 	return "record it again on the question's page"
-}
-
-// poolChange is questionState.poolChange for the report, read from the
-// record: question q's current fits of active experts are the pool now.
-func (v reportView) poolChange(q record.Question) (workshop.PoolChange, bool) {
-	if q.AgreedPrior == nil {
-		return workshop.PoolChange{}, false
-	}
-	now := map[int64]int64{}
-	for _, cf := range q.CurrentFits {
-		if cf.Fit != nil && !v.Experts[cf.ExpertID].Revoked {
-			now[cf.ExpertID] = cf.RevisionID
-		}
-	}
-	expertOf := map[int64]int64{}
-	for _, rv := range v.Record.Revisions {
-		if rv.QuestionID == q.ID {
-			expertOf[rv.ID] = rv.ExpertID
-		}
-	}
-	then := weightSetByID(v.Record.WeightHistory, q.AgreedPrior.WeightSetID)
-	if q.AgreedPrior.WeightSetID == 0 {
-		then = &workshop.Weights{Scheme: workshop.WeightsEqual}
-	}
-	return q.AgreedPrior.PoolChangeSince(now, v.Record.Weights, then, expertOf)
 }

@@ -79,7 +79,7 @@ func TestPriorsCSVDownload(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if strings.Join(rows[0], ",") != "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired" || len(rows) != 2 {
+	if strings.Join(rows[0], ",") != "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired,pool_changed" || len(rows) != 2 {
 		t.Fatalf("priors.csv rows %q", rows)
 	}
 	_, js := h.get(workshopPath(ws.ID) + "/export.json")

@@ -33,7 +33,7 @@ func TestRetiredQuestionsPriorIsMarked(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if len(rows) != 2 || rows[0][len(rows[0])-1] != "retired" || rows[1][len(rows[1])-1] != "true" {
+	if len(rows) != 2 || rows[0][len(rows[0])-2] != "retired" || rows[1][len(rows[1])-2] != "true" {
 		t.Errorf("priors.csv, Q1 retired: %q", rows)
 	}
 	// Brought back, it is listed again, and the CSV says it is in use.
@@ -45,7 +45,7 @@ func TestRetiredQuestionsPriorIsMarked(t *testing.T) {
 		t.Error("the report, Q1 brought back: still not listed")
 	}
 	_, text = h.get(wp + "/priors.csv")
-	if rows, _ = csv.NewReader(strings.NewReader(text)).ReadAll(); len(rows) != 2 || rows[1][len(rows[1])-1] != "false" {
+	if rows, _ = csv.NewReader(strings.NewReader(text)).ReadAll(); len(rows) != 2 || rows[1][len(rows[1])-2] != "false" {
 		t.Errorf("priors.csv, Q1 brought back: %q", rows)
 	}
 }

@@ -134,7 +134,7 @@ func TestExportPriorsCSV(t *testing.T) {
 		t.Fatalf("exit %d: %s", code, errs)
 	}
 	// The header the issue spelled, then the columns added since, at the end.
-	if !strings.HasPrefix(out, "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired\n") {
+	if !strings.HasPrefix(out, "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired,pool_changed\n") {
 		t.Fatalf("header:\n%s", out)
 	}
 	rows, err := csv.NewReader(strings.NewReader(out)).ReadAll()

@@ -20,11 +20,15 @@ import (
 // retired (hidden from the experts, kept in the record) after its prior
 // was agreed: the row stays, since the record keeps the prior, but a
 // project lead taking the file into a study must not read it as a prior
-// in use (the report's table leaves such a question out).
+// in use (the report's table leaves such a question out). Last,
+// pool_changed is "true" for a prior agreed from the pool when the pool
+// has moved since (Record.PoolChange: an expert revised, joined or left,
+// or other weights are in force): the prior still stands for the pool
+// as it was agreed, as the report and the question's page say beside it.
 var PriorsCSVHeader = []string{
 	"question_id", "quantity", "units", "lower", "upper", "alpha", "beta",
 	"mean", "sd", "q05", "q50", "q95", "source", "rationale", "agreed_at",
-	"invented", "caution", "warnings", "retired",
+	"invented", "caution", "warnings", "retired", "pool_changed",
 }
 
 // WritePriorsCSV writes one row per question with an agreed prior, in
@@ -52,6 +56,8 @@ func (r Record) WritePriorsCSV(w io.Writer) error {
 		}
 		row = append(row, cell(source), cell(a.Rationale), a.At.UTC().Format(time.RFC3339Nano),
 			strconv.FormatBool(r.Workshop.Invented), Caution, cell(warningLines(a.Warnings)), strconv.FormatBool(q.Retired))
+		c, ok := r.PoolChange(q)
+		row = append(row, strconv.FormatBool(ok && c.Any()))
 		if err := cw.Write(row); err != nil {
 			return err
 		}

@@ -24,7 +24,7 @@ func TestWritePriorsCSV(t *testing.T) {
 	src.Priors[1].Rationale = "agreed in discussion,\nafter \"round 2\""
 	text, rows, back := priorsCSVAndRecord(t, src)
 	buf := bytes.NewBufferString(text)
-	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired\n"
+	const header = "question_id,quantity,units,lower,upper,alpha,beta,mean,sd,q05,q50,q95,source,rationale,agreed_at,invented,caution,warnings,retired,pool_changed\n"
 	if !strings.HasPrefix(buf.String(), header) {
 		t.Fatalf("header:\n%s", buf.String())
 	}

@@ -1,0 +1,66 @@
+package record
+
+import (
+	"bytes"
+	"encoding/csv"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/elicit/workshop/workshoptest"
+)
+
+// The pool under an agreed prior, read from the record: unchanged right
+// after the agreement, revised once an expert saves again, and the same
+// whether the record was built with its panels (Build, the JSON and the
+// report) or without (BuildHistory, the CSVs); the priors CSV's last
+// column says so. BuildHistory's questions carry no current fits, and a
+// reading of those had every pooled expert "no longer in the pool".
+func TestPoolChangeFromTheRecord(t *testing.T) {
+	src := workshoptest.PumpSeals()
+	src.Priors = src.Priors[:1] // the prior from the pool is the one in force
+	src.Weights = workshop.Weights{WorkshopID: 7, Scheme: workshop.WeightsEqual}
+	src.Data = nil
+	src.Priors[0].Pooled = []int64{35, 32} // Ada's round-2 answer and Bela's; Chidi is revoked
+	check := func(name string, wantChanged bool, wantRevised []int64) {
+		t.Helper()
+		for _, build := range []struct {
+			name string
+			f    func(workshop.Snapshot, time.Time) (Record, error)
+		}{{"Build", Build}, {"BuildHistory", BuildHistory}} {
+			r, err := build.f(src, t0.Add(time.Hour))
+			if err != nil {
+				t.Fatal(err)
+			}
+			c, ok := r.PoolChange(r.Questions[0])
+			if !ok || c.Any() != wantChanged || len(c.Left) != 0 || len(c.Joined) != 0 || len(c.Revised) != len(wantRevised) {
+				t.Errorf("%s, %s: %v %+v, want changed %v with revised %v", name, build.name, ok, c, wantChanged, wantRevised)
+			}
+			for i, e := range wantRevised {
+				if i < len(c.Revised) && c.Revised[i] != e {
+					t.Errorf("%s, %s: revised %v, want %v", name, build.name, c.Revised, wantRevised)
+				}
+			}
+			var buf bytes.Buffer
+			if err := r.WritePriorsCSV(&buf); err != nil {
+				t.Fatal(err)
+			}
+			rows, err := csv.NewReader(&buf).ReadAll()
+			if err != nil {
+				t.Fatal(err)
+			}
+			last := len(rows[0]) - 1
+			want := "false"
+			if wantChanged {
+				want = "true"
+			}
+			if rows[0][last] != "pool_changed" || rows[1][last] != want {
+				t.Errorf("%s, %s: priors CSV %s = %q, want %q", name, build.name, rows[0][last], rows[1][last], want)
+			}
+		}
+	}
+	check("as agreed", false, nil)
+	src.Revisions = append(src.Revisions, workshop.Revision{ID: 36, QuestionID: 11, ExpertID: 22, Round: 2,
+		At: t0.Add(9 * time.Minute), Answer: workshop.Answer{Values: []float64{0.12, 0.22, 0.42}}})
+	check("Bela revised", true, []int64{22})
+}
