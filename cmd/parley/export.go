@@ -80,7 +80,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return rec.WriteJSON(w)
 	}
 	if *out == "" {
-		err = writeBuffered(stdout, write)
+		err = writeStdout(stdout, write)
 	} else {
 		err = writeFileAtomic(*out, write)
 	}
@@ -88,6 +88,41 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		return fail(stderr, "export", err)
 	}
 	return exitOK
+}
+
+// writeStdout streams write's output to standard output. Bytes already
+// written there cannot be taken back, so when standard output fails part
+// way (a full disk under a redirection, a closed pipe) the message says
+// how much went out and that it is an incomplete record, not only the
+// system's "write /dev/stdout: no space left on device", which a script
+// could miss while a file holding half a record stayed behind; --out
+// writes a whole record or nothing.
+func writeStdout(stdout io.Writer, write func(io.Writer) error) error {
+	cw := &countingWriter{w: stdout}
+	err := writeBuffered(cw, write)
+	if err != nil && cw.err != nil {
+		if cw.n == 0 {
+			return fmt.Errorf("standard output took nothing (%v): nothing was written; --out FILE writes the whole output or nothing", cw.err)
+		}
+		return fmt.Errorf("standard output failed after %d bytes (%v): what was written there is cut short, not a whole export; --out FILE writes the whole output or nothing", cw.n, cw.err)
+	}
+	return err
+}
+
+// countingWriter counts the bytes w took and keeps the first error.
+type countingWriter struct {
+	w   io.Writer
+	n   int64
+	err error
+}
+
+func (c *countingWriter) Write(p []byte) (int, error) {
+	n, err := c.w.Write(p)
+	c.n += int64(n)
+	if err != nil && c.err == nil {
+		c.err = err
+	}
+	return n, err
 }
 
 // writeBuffered streams write's output to w through a buffer: a record of

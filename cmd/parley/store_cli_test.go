@@ -7,6 +7,7 @@ import (
 	"encoding/csv"
 	"encoding/json"
 	"errors"
+	"fmt"
 	"io"
 	"os"
 	"os/exec"
@@ -932,5 +933,54 @@ func TestExportCutShortNamesTheFileAsked(t *testing.T) {
 	}
 	if left, _ := os.ReadDir(dir); len(left) != 0 {
 		t.Errorf("a failed export left %v behind", left)
+	}
+}
+
+// TestExportToStdoutCutShortSaysSo: an export to standard output that
+// fails part way (here a redirection into a file under a size limit,
+// as a full disk would) cannot take back what went out; it says how much
+// did and that it is cut short, not a whole record, and names --out.
+// It said only "write /dev/stdout: file too large", while the file
+// under the redirection held half a record that read as JSON up to its
+// cut.
+func TestExportToStdoutCutShortSaysSo(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(path)
+	check(t, err)
+	if _, err := web.SeedDemo(context.Background(), db); err != nil {
+		t.Fatal(err)
+	}
+	ws, err := db.Workshops(context.Background())
+	check(t, err)
+	check(t, db.Close())
+	bin := parleyBinary(t)
+	out := filepath.Join(t.TempDir(), "record.json")
+	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@" > "$OUT"`, bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10))
+	cmd.Env = append(os.Environ(), "OUT="+out)
+	var errb bytes.Buffer
+	cmd.Stderr = &errb
+	err = cmd.Run()
+	var ee *exec.ExitError
+	if !errors.As(err, &ee) || ee.ExitCode() != exitFailure {
+		t.Fatalf("export to a limited stdout: %v, stderr %q; want exit 1", err, errb.String())
+	}
+	fi, err := os.Stat(out)
+	check(t, err)
+	want := fmt.Sprintf("parley export: standard output failed after %d bytes (", fi.Size())
+	if msg := errb.String(); !strings.HasPrefix(msg, want) || !strings.Contains(msg, "what was written there is cut short, not a whole export; --out FILE writes the whole output or nothing") {
+		t.Errorf("stderr %q: want it to begin %q and say the output is cut short", msg, want)
+	}
+	// /dev/full takes nothing: nothing was written.
+	cmd = exec.Command(bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10))
+	full, err := os.OpenFile("/dev/full", os.O_WRONLY, 0)
+	if err != nil {
+		t.Skip("no /dev/full here")
+	}
+	defer full.Close()
+	cmd.Stdout = full
+	errb.Reset()
+	cmd.Stderr = &errb
+	if err := cmd.Run(); !errors.As(err, &ee) || ee.ExitCode() != exitFailure || !strings.Contains(errb.String(), "standard output took nothing (") {
+		t.Errorf("export to /dev/full: %v, stderr %q", err, errb.String())
 	}
 }
