@@ -82,6 +82,11 @@ type studyView struct {
 	PlannedOmitted, ObservedOmitted string
 	Skipped                         []string // priors left out of the comparison, and why
 	Caveats                         []string // pools whose single Beta stands in for them only roughly
+	// UniformPrior names, as a sentence begins ("The agreed prior"), a
+	// prior compared that is itself the uniform Beta(1, 1), which then
+	// stands as the comparison's reference (no row of its own is added);
+	// "" when none is.
+	UniformPrior string
 
 	// PoolChanged says how the pool a prior from the pool was agreed
 	// from has changed since (poolChangeWords), "" when it has not: the
@@ -146,6 +151,12 @@ type sensitivityBlock struct {
 	Successes, Trials int
 	Rows              []elicit.SensitivityRow
 	Picture           chart.IntervalsView
+	// Notes say, row by row, how a highest-density interval is to be
+	// read where the posterior's shape makes it other than an interval
+	// around a peak (elicit.HDINote): after no failures in a run of
+	// trials, the uniform reference's posterior is J-shaped and its
+	// interval starts at 0, which the table showed without a word.
+	Notes []string
 }
 
 func (s *Server) studyPage(w http.ResponseWriter, r *http.Request) {
@@ -242,6 +253,11 @@ func buildStudy(ctx context.Context, d workshopData, q workshop.Question, data [
 	for _, e := range d.Experts {
 		experts[e.Name] = true
 	}
+	if name := uniformAmong(priors); name != "" {
+		in := priorInSentence(name, experts[name])
+		r, size := utf8.DecodeRuneInString(in)
+		v.UniformPrior = string(unicode.ToUpper(r)) + in[size:]
+	}
 	for i, p := range priors {
 		// A choice is named by its prior's key, not its place in the
 		// list: the plan's address keeps it, and by place a plan of the
@@ -292,9 +308,27 @@ const referenceName = "Uniform, for reference (no judgement)"
 // Beside it a lead sees how far the panel's judgement moves the
 // conclusion, the first question of a review of an elicited prior. It is
 // a row of the comparison, not a prior to plan a study under.
+//
+// Where a prior compared is itself the uniform (an agreed prior made as
+// Beta(1, 1)), no reference row is added: the same posterior stood twice,
+// under two names, one of them saying it carried no judgement.
 func withReference(priors []elicit.NamedPrior) []elicit.NamedPrior {
+	if uniformAmong(priors) != "" {
+		return priors
+	}
 	out := append([]elicit.NamedPrior(nil), priors...)
 	return append(out, elicit.NamedPrior{Name: referenceName, Prior: elicit.Uniform(), Key: "uniform"})
+}
+
+// uniformAmong is the name of the first of priors that is the uniform
+// Beta(1, 1), or "".
+func uniformAmong(priors []elicit.NamedPrior) string {
+	for _, p := range priors {
+		if p.Prior == elicit.Uniform() {
+			return p.Name
+		}
+	}
+	return ""
 }
 
 // defaultChoice is the prior a study is planned under unless another is
@@ -384,6 +418,9 @@ func compare(priors []elicit.NamedPrior, s, n int, id string) (*sensitivityBlock
 	for _, r := range rows {
 		b.Picture.Rows = append(b.Picture.Rows, chart.IntervalRow{Label: r.Name, Mean: r.Mean, Lo: r.Interval[0], Hi: r.Interval[1],
 			Emphasis: r.Name == "Agreed prior"})
+		if note := elicit.HDINote(r.Posterior, r.HDI[0], r.HDI[1], "the posterior"); note != "" {
+			b.Notes = append(b.Notes, r.Name+": "+note+".")
+		}
 	}
 	return b, nil
 }

@@ -368,11 +368,21 @@ func TestStudyNotesAJShapedPosterior(t *testing.T) {
 	if res, body := h.post(sp+"/data", url.Values{"successes": {"0"}, "trials": {"20"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("record data: %d %s", res.StatusCode, body)
 	}
-	if _, page := h.get(sp); strings.Contains(html.UnescapeString(page), "J-shaped (α") {
+	_, page := h.get(sp)
+	if strings.Contains(html.UnescapeString(page), "The posterior is J-shaped (α") {
 		t.Fatal("the note shows for the demo's posterior, whose mode is inside (0, 1)")
 	}
+	// The comparison's rows each say how to read their own interval: no
+	// failure in 20 trials leaves the uniform reference's posterior,
+	// Beta(1, 21), highest at 0, and the agreed prior's row no note.
+	notes := page[strings.Index(page, `class="hint compare-notes"`):]
+	notes = html.UnescapeString(notes[:strings.Index(notes, "</ul>")])
+	if !strings.Contains(notes, "Uniform, for reference (no judgement): the posterior is J-shaped (α = 1, at most 1): its density is highest at 0, so the highest-density interval starts at 0") ||
+		strings.Contains(notes, "Agreed prior:") {
+		t.Errorf("the comparison's notes after 0 in 20:\n%s", notes)
+	}
 	agreeAgain(t, h, ws.ID, elicit.Beta{Alpha: 0.5, Beta: 10}, "Invented: a prior with its density highest at 0.")
-	_, page := h.get(sp)
+	_, page = h.get(sp)
 	if !strings.Contains(html.UnescapeString(page), note) {
 		t.Errorf("the study page of posterior Beta(0.5, 30) lacks the note %q", note)
 	}
@@ -1115,5 +1125,34 @@ func TestStudyPlanHintsSayAPercentSignIsTaken(t *testing.T) {
 		if !strings.Contains(body, hint) {
 			t.Errorf("the study page's plan lacks the hint %q", hint)
 		}
+	}
+}
+
+// An agreed prior that is itself the uniform Beta(1, 1) (a prior of no
+// judgement, agreed on purpose) is the comparison's reference: no second
+// uniform row is added under another name, and the words say the agreed
+// prior's row is what the data say alone. The same posterior had stood
+// twice, once as "Agreed prior" and once as the reference "no judgement".
+func TestStudyUniformAgreedPriorIsTheReference(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	if res, body := h.post(sp+"/data", url.Values{"successes": {"2"}, "trials": {"40"}, "source": {"Site log (invented)"}, "observed_on": {"2026-03-31"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("record data: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(sp)
+	if n := strings.Count(page, "Uniform, for reference (no judgement)"); n == 0 {
+		t.Fatal("the demo's comparison has no uniform reference row")
+	}
+	agreeAgain(t, h, ws.ID, elicit.Uniform(), "Invented: no judgement, on purpose.")
+	_, page = h.get(sp)
+	page = html.UnescapeString(page)
+	if strings.Contains(page, "Uniform, for reference (no judgement)") {
+		t.Error("a uniform agreed prior is compared with a second uniform row")
+	}
+	if want := "The agreed prior is itself the uniform Beta(1, 1), which carries no judgement: its row is what the data say alone"; !strings.Contains(page, want) {
+		t.Errorf("the comparison's words lack %q", want)
+	}
+	if strings.Contains(page, "The last row, the uniform Beta(1, 1), carries no judgement") {
+		t.Error("the words still speak of a last, uniform row")
 	}
 }
