@@ -24,7 +24,7 @@ func TestNoCloseWithNothingAsked(t *testing.T) {
 	if strings.Contains(page, "Close round 1") {
 		t.Errorf("the overview offers to close round 1 with no question:\n%s", excerpt(page, `id="rounds"`))
 	}
-	if want := "with no question in use yet: experts have nothing to answer. Add a question below"; !strings.Contains(page, want) {
+	if want := "Round 1 is open, with no question yet: experts have nothing to answer. Add a question below; the round can close once there is one."; !strings.Contains(page, want) {
 		t.Errorf("the rounds card lacks %q:\n%s", want, excerpt(page, `id="rounds"`))
 	}
 	res, page := h.post(wp+"/round", url.Values{"action": {"close"}})
@@ -43,7 +43,18 @@ func TestNoCloseWithNothingAsked(t *testing.T) {
 			t.Fatalf("a round close was recorded: %+v", e)
 		}
 	}
-	h.addQuantileQuestion(t, ws.ID, "What share of the invented pumps fail in a year?", "failure share")
+	q := h.addQuantileQuestion(t, ws.ID, "What share of the invented pumps fail in a year?", "failure share")
+	qp := questionPath(ws.ID, q.ID)
+	if res, body := h.post(qp+"/retire", url.Values{"action": {"retire"}, "retire_reason": {"Asked too soon (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("retire: %d %s", res.StatusCode, body)
+	}
+	_, page = h.get(wp)
+	if want := "Round 1 is open, but every question is retired: experts have nothing to answer. Bring one back from its page, or add one below"; !strings.Contains(page, want) || strings.Contains(page, "Close round 1") {
+		t.Errorf("the rounds card, every question retired, lacks %q or offers to close:\n%s", want, excerpt(page, `id="rounds"`))
+	}
+	if res, body := h.post(qp+"/retire", url.Values{"action": {"restore"}, "retire_reason": {"Asked after all (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("restore: %d %s", res.StatusCode, body)
+	}
 	if _, page := h.get(wp); !strings.Contains(page, "Close round 1") {
 		t.Errorf("with a question in use, the overview offers no close:\n%s", excerpt(page, `id="rounds"`))
 	}
