@@ -17,17 +17,7 @@ func TestRoundClosesOnlyWithAQuestionInUse(t *testing.T) {
 	ctx := context.Background()
 	w := workshop.Workshop{Title: "Nothing asked yet (invented)"}
 	must(t, db.CreateWorkshop(ctx, &w))
-	closes := func() int {
-		evs, err := db.Events(ctx, w.ID)
-		must(t, err)
-		n := 0
-		for _, e := range evs {
-			if e.Kind == workshop.EventRoundClosed {
-				n++
-			}
-		}
-		return n
-	}
+	closes := func() int { return eventCount(t, db, w.ID, workshop.EventRoundClosed) }
 	refused := func(when string) {
 		t.Helper()
 		var ie *elicit.InputError
@@ -49,4 +39,19 @@ func TestRoundClosesOnlyWithAQuestionInUse(t *testing.T) {
 	if n := closes(); n != 1 {
 		t.Fatalf("%d closes recorded, want 1", n)
 	}
+}
+
+// eventCount is how many events of the kind workshop wsID's decision log
+// holds.
+func eventCount(t *testing.T, db *DB, wsID int64, kind workshop.EventKind) int {
+	t.Helper()
+	evs, err := db.Events(context.Background(), wsID)
+	must(t, err)
+	n := 0
+	for _, e := range evs {
+		if e.Kind == kind {
+			n++
+		}
+	}
+	return n
 }

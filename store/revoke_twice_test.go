@@ -18,17 +18,7 @@ func TestRevokeTwiceIsRefused(t *testing.T) {
 	p := seed(t, db)
 	ctx := context.Background()
 	e := p.experts[0]
-	count := func() int {
-		evs, err := db.Events(ctx, p.w.ID)
-		must(t, err)
-		n := 0
-		for _, ev := range evs {
-			if ev.Kind == workshop.EventExpertRevoked {
-				n++
-			}
-		}
-		return n
-	}
+	count := func() int { return eventCount(t, db, p.w.ID, workshop.EventExpertRevoked) }
 	must(t, db.RevokeExpert(ctx, e.ID, "left the panel"))
 	err := db.RevokeExpert(ctx, e.ID, "left, said again")
 	var ie *elicit.InputError

@@ -6,6 +6,8 @@ import (
 	"net/url"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // A retired question takes no agreed prior, as the quick priors page
@@ -54,17 +56,7 @@ func TestRetiredQuestionTakesNoPrior(t *testing.T) {
 // it).
 func TestRetiredQuestionsPriorStaysAndItsAdviceHolds(t *testing.T) {
 	h, ws, qs, es, _ := seeded(t)
-	qp := questionPath(ws.ID, qs[0].ID)
-	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
-	}
-	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
-	for i, e := range es {
-		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
-	}
-	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("set weights: %d %s", res.StatusCode, body)
-	}
+	qp := agreePoolThenReweigh(t, h, ws.ID, qs[0].ID, es)
 	if res, body := h.post(qp+"/retire", url.Values{"action": {"retire"}, "retire_reason": {"Out of scope (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("retire: %d %s", res.StatusCode, body)
 	}
@@ -93,17 +85,7 @@ func TestRetiredQuestionsPriorStaysAndItsAdviceHolds(t *testing.T) {
 // could take.
 func TestPoolChangedAdviceFitsWhereItIsRead(t *testing.T) {
 	h, ws, qs, es, _ := seeded(t)
-	qp := questionPath(ws.ID, qs[0].ID)
-	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
-	}
-	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
-	for i, e := range es {
-		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
-	}
-	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
-		t.Fatalf("set weights: %d %s", res.StatusCode, body)
-	}
+	qp := agreePoolThenReweigh(t, h, ws.ID, qs[0].ID, es)
 	advice := func(page string) string {
 		_, body := h.get(page)
 		body = strings.ReplaceAll(body, "&#39;", "'")
@@ -140,4 +122,23 @@ func TestPoolChangedAdviceOnARetiredQuestionOfAnArchivedWorkshop(t *testing.T) {
 	if got, want := (againAt{OnQuestionPage: true, Retired: true, Archived: true}).words(), "bring the workshop back, then the question, and record it again"; got != want {
 		t.Errorf("got %q, want %q", got, want)
 	}
+}
+
+// agreePoolThenReweigh agrees the demo's question qID's pool as its
+// prior, then sets custom weights (2, 1, 1, 1), so the pool has moved
+// under the prior; it returns the question's path.
+func agreePoolThenReweigh(t *testing.T, h *harness, wsID, qID int64, es []workshop.Expert) string {
+	t.Helper()
+	qp := questionPath(wsID, qID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	wf := url.Values{"scheme": {"custom"}, "reason": {"Invented."}}
+	for i, e := range es {
+		wf.Set(weightField(e.ID), []string{"2", "1", "1", "1"}[i])
+	}
+	if res, body := h.post(qp+"/weights", wf); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("set weights: %d %s", res.StatusCode, body)
+	}
+	return qp
 }

@@ -906,24 +906,16 @@ func TestStoreCommandsSayADamagedDatabaseIsDamaged(t *testing.T) {
 func TestExportCutShortNamesTheFileAsked(t *testing.T) {
 	// The invented demo, whose record is larger than the limit, while
 	// opening its database stays under it (as for the backup above).
-	path := filepath.Join(t.TempDir(), "parley.db")
-	db, err := store.Open(path)
-	check(t, err)
-	if _, err := web.SeedDemo(context.Background(), db); err != nil {
-		t.Fatal(err)
-	}
-	ws, err := db.Workshops(context.Background())
-	check(t, err)
-	check(t, db.Close())
+	path, wid := demoDatabase(t)
 	bin := parleyBinary(t)
 	dir := t.TempDir()
 	out := filepath.Join(dir, "record.json")
 	// The Go runtime ignores SIGXFSZ, so the write past the limit fails
 	// with EFBIG instead of ending the process.
-	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@"`, bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10), "--out", out)
+	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@"`, bin, "export", "--db", path, "--workshop", wid, "--out", out)
 	var errb bytes.Buffer
 	cmd.Stderr = &errb
-	err = cmd.Run()
+	err := cmd.Run()
 	var ee *exec.ExitError
 	if !errors.As(err, &ee) || ee.ExitCode() != exitFailure {
 		t.Fatalf("export under a 64-block limit: %v, stderr %q; want exit 1", err, errb.String())
@@ -944,22 +936,14 @@ func TestExportCutShortNamesTheFileAsked(t *testing.T) {
 // under the redirection held half a record that read as JSON up to its
 // cut.
 func TestExportToStdoutCutShortSaysSo(t *testing.T) {
-	path := filepath.Join(t.TempDir(), "parley.db")
-	db, err := store.Open(path)
-	check(t, err)
-	if _, err := web.SeedDemo(context.Background(), db); err != nil {
-		t.Fatal(err)
-	}
-	ws, err := db.Workshops(context.Background())
-	check(t, err)
-	check(t, db.Close())
+	path, wid := demoDatabase(t)
 	bin := parleyBinary(t)
 	out := filepath.Join(t.TempDir(), "record.json")
-	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@" > "$OUT"`, bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10))
+	cmd := exec.Command("/bin/sh", "-c", `ulimit -f 64 && exec "$0" "$@" > "$OUT"`, bin, "export", "--db", path, "--workshop", wid)
 	cmd.Env = append(os.Environ(), "OUT="+out)
 	var errb bytes.Buffer
 	cmd.Stderr = &errb
-	err = cmd.Run()
+	err := cmd.Run()
 	var ee *exec.ExitError
 	if !errors.As(err, &ee) || ee.ExitCode() != exitFailure {
 		t.Fatalf("export to a limited stdout: %v, stderr %q; want exit 1", err, errb.String())
@@ -971,7 +955,7 @@ func TestExportToStdoutCutShortSaysSo(t *testing.T) {
 		t.Errorf("stderr %q: want it to begin %q and say the output is cut short", msg, want)
 	}
 	// /dev/full takes nothing: nothing was written.
-	cmd = exec.Command(bin, "export", "--db", path, "--workshop", strconv.FormatInt(ws[0].ID, 10))
+	cmd = exec.Command(bin, "export", "--db", path, "--workshop", wid)
 	full, err := os.OpenFile("/dev/full", os.O_WRONLY, 0)
 	if err != nil {
 		t.Skip("no /dev/full here")
@@ -983,4 +967,20 @@ func TestExportToStdoutCutShortSaysSo(t *testing.T) {
 	if err := cmd.Run(); !errors.As(err, &ee) || ee.ExitCode() != exitFailure || !strings.Contains(errb.String(), "standard output took nothing (") {
 		t.Errorf("export to /dev/full: %v, stderr %q", err, errb.String())
 	}
+}
+
+// demoDatabase is a database file holding the invented demo workshop,
+// closed, and the workshop's ID as typed on a command line.
+func demoDatabase(t *testing.T) (path, workshopID string) {
+	t.Helper()
+	path = filepath.Join(t.TempDir(), "parley.db")
+	db, err := store.Open(path)
+	check(t, err)
+	if _, err := web.SeedDemo(context.Background(), db); err != nil {
+		t.Fatal(err)
+	}
+	ws, err := db.Workshops(context.Background())
+	check(t, err)
+	check(t, db.Close())
+	return path, strconv.FormatInt(ws[0].ID, 10)
 }
