@@ -422,16 +422,20 @@ func eventBytes(ev workshop.Event) []byte {
 }
 
 // RuleNoted is the rule of a noted fingerprint: 16 hex digits (the 4
-// groups the room is shown) or all 64, spaces allowed between them.
+// groups the room is shown) or all 64, in either letter case, with
+// spaces, hyphens or colons allowed between them.
 const RuleNoted elicit.Rule = "must be 16 hex digits as the room is shown them (4 groups of 4), or all 64"
 
 // ParseNoted reads a noted value, "3f2a 91c0 7be4 0d15" or its 64-digit
 // whole, into the bytes it gives. field names it in an error
-// (*elicit.InputError with RuleNoted).
+// (*elicit.InputError with RuleNoted). A value noted by hand is often
+// grouped with hyphens ("3f2a-91c0-7be4-0d15"), and one copied from a
+// page may carry a no-break space; both were refused, so the
+// facilitator's own note of the room's value did not check.
 func ParseNoted(field, s string) ([]byte, error) {
 	digits := strings.Map(func(r rune) rune {
 		switch r {
-		case ' ', '\t':
+		case ' ', '\t', '\u00a0', '\u202f', '-', ':':
 			return -1
 		}
 		return r

@@ -219,13 +219,16 @@ func TestStartValue(t *testing.T) {
 
 func TestParseNoted(t *testing.T) {
 	v := Of(everyKind()).Head()
-	for _, s := range []string{v.Short(), v.Hex(), "  " + v.Hex()[:16] + " ", strings.ToUpper(v.Short())} {
+	// Grouped by hand with hyphens or colons, or copied from a page with
+	// no-break spaces, the value reads as typed with spaces.
+	for _, s := range []string{v.Short(), v.Hex(), "  " + v.Hex()[:16] + " ", strings.ToUpper(v.Short()),
+		strings.ReplaceAll(v.Short(), " ", "-"), strings.ReplaceAll(v.Short(), " ", ":"), strings.ReplaceAll(v.Short(), " ", "\u00a0")} {
 		b, err := ParseNoted("check", s)
 		if err != nil || !hasPrefix(v, b) {
 			t.Errorf("ParseNoted(%q) = %x, %v", s, b, err)
 		}
 	}
-	for _, s := range []string{"", "3f2a 91c0 7be4", "3f2a 91c0 7be4 0d1g", "3f2a-91c0-7be4-0d15", v.Hex() + "0"} {
+	for _, s := range []string{"", "3f2a 91c0 7be4", "3f2a 91c0 7be4 0d1g", "3f2a_91c0_7be4_0d15", "3f2a-91c0-7be4", v.Hex() + "0"} {
 		_, err := ParseNoted("check", s)
 		var ie *elicit.InputError
 		if !errors.As(err, &ie) || ie.Field != "check" || ie.Rule != RuleNoted {
