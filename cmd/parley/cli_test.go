@@ -260,6 +260,9 @@ func TestScriptingBadInput(t *testing.T) {
 		{"pool zero weights", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3,"weight":0}]}`, []string{"weight", string(elicit.RuleWeightsNotAllZero)}},
 		{"pool probs", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"probs":[0.5,1]}`, []string{"probs[1]", string(elicit.RuleProbOpen)}},
 		{"pool method", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"method":"mean"}`, []string{"method", string(elicit.RuleUnknown)}},
+		// An empty method is refused, as an empty flag is, never read as
+		// the method left out (it was taken as linear).
+		{"pool method empty", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"method":""}`, []string{"method", string(elicit.RuleUnknown), `got ""`}},
 		{"pool bounds", []string{"pool"}, `{"experts":[{"alpha":2,"beta":3}],"lower":1,"upper":1}`, []string{"lower", string(elicit.RuleBoundsOrder)}},
 		{"log pool underflow", []string{"pool"}, `{"experts":[{"alpha":5e-324,"beta":3},{"alpha":5e-324,"beta":3}],"method":"log"}`, []string{"experts[0].alpha", string(elicit.RuleShapeRange)}},
 		// Issue 11: inputs that overflowed or underflowed are refused up

@@ -37,7 +37,7 @@ const (
 type poolInput struct {
 	Experts []poolExpert `json:"experts"`
 	Probs   []float64    `json:"probs"`  // default 0.05, 0.5, 0.95
-	Method  string       `json:"method"` // "linear" (default) or "log"
+	Method  *string      `json:"method"` // "linear" (default, when absent) or "log"; "" is refused, as an empty flag is
 	Lower   *float64     `json:"lower"`  // default 0
 	Upper   *float64     `json:"upper"`  // default 1
 }
@@ -230,8 +230,12 @@ func poolResult(in poolInput) (poolOutput, error) {
 	// never null.
 	out := poolOutput{Experts: len(dists), Lower: lower, Upper: upper, Probs: probs, Warnings: []string{}, Caution: cautionJSON,
 		Quantiles: make([]float64, 0, len(probs)), QuantileDetail: []elicit.PoolQuantile{}}
-	switch in.Method {
-	case "", "linear":
+	method := "linear"
+	if in.Method != nil {
+		method = *in.Method
+	}
+	switch method {
+	case "linear":
 		out.Method = "linear"
 		p, err := elicit.LinearPool(dists, weights)
 		if err != nil {
@@ -278,7 +282,7 @@ func poolResult(in poolInput) (poolOutput, error) {
 		}
 		out.Mean, out.SD, out.Beta, out.BetaExact = d.Mean(), d.SD(), &d.Beta, true
 	default:
-		return poolOutput{}, &elicit.InputError{Field: "method", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("got %q, want \"linear\" or \"log\"", in.Method)}
+		return poolOutput{}, &elicit.InputError{Field: "method", Rule: elicit.RuleUnknown, Detail: fmt.Sprintf("got %q, want \"linear\" or \"log\"", method)}
 	}
 	if w, ok := poolBeyondDouble(out, lower, upper); ok {
 		out.Warnings, out.heldAsBound = append(out.Warnings, w), true
