@@ -57,6 +57,11 @@ func runFingerprint(args []string, stdin io.Reader, stdout, stderr io.Writer) in
 	if err != nil {
 		return fail(stderr, "fingerprint", err)
 	}
+	// A record of another format may lay its facts out otherwise: its
+	// values were worked out as if it were this one's.
+	if err := rec.CheckFormat(); err != nil {
+		return fail(stderr, "fingerprint", err)
+	}
 	// Any JSON object decodes; one without a workshop is not a record
 	// (its "fingerprint" would be h₀ of workshop 0).
 	if rec.Workshop.ID <= 0 || rec.Workshop.Created.IsZero() {

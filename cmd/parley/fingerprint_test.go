@@ -191,18 +191,28 @@ func TestFingerprintBadInput(t *testing.T) {
 	check(t, os.WriteFile(notJSON, []byte("3f2a 91c0 7be4 0d15\n"), 0o644))
 	emptyJSON := filepath.Join(t.TempDir(), "empty.json")
 	check(t, os.WriteFile(emptyJSON, []byte("{}\n"), 0o644))
+	noWorkshop := filepath.Join(t.TempDir(), "no-workshop.json")
+	check(t, os.WriteFile(noWorkshop, []byte(`{"parley_record": 1}`+"\n"), 0o644))
+	// A record of a later format may lay its facts out otherwise; its
+	// values were worked out as if it were this one's.
+	b, err := os.ReadFile(file)
+	check(t, err)
+	later := filepath.Join(t.TempDir(), "later.json")
+	check(t, os.WriteFile(later, []byte(strings.Replace(string(b), `"parley_record": 1`, `"parley_record": 2`, 1)), 0o644))
 	for _, tt := range []struct {
 		args []string
 		want string
 	}{
 		{[]string{"--check", "3f2a 91c0 7be4", "--in", file}, "--check: must be 16 hex digits"},
 		{[]string{"--check", "3f2a 91c0 7be4 0d1x", "--in", file}, "--check: must be 16 hex digits"},
-		{[]string{"--check", "3f2a-91c0-7be4-0d15", "--in", file}, "--check: must be 16 hex digits"},
+		{[]string{"--check", "3f2a_91c0_7be4_0d15", "--in", file}, "--check: must be 16 hex digits"},
 		{[]string{"--in", file + ".missing"}, "--in:"},
 		{[]string{"--check", "3f2a 91c0 7be4 0d15"}, "--in: a JSON record file is required"},
 		{[]string{"--in", notJSON}, "record: " + string(record.RuleJSON)},
 		{[]string{file}, "unexpected argument"},
-		{[]string{"--in", emptyJSON}, "--in: the file is not a workshop's record"},
+		{[]string{"--in", emptyJSON}, "parley_record: is required (the file is not a Parley record"},
+		{[]string{"--in", noWorkshop}, "--in: the file is not a workshop's record"},
+		{[]string{"--in", later}, "parley_record: unknown value (format 2; this version reads 1)"},
 	} {
 		code, out, errs := run(append([]string{"fingerprint"}, tt.args...)...)
 		if code != exitBadInput || out != "" || !strings.Contains(errs, tt.want) || strings.Count(errs, "\n") != 1 {

@@ -65,9 +65,23 @@ const RuleFitMismatch elicit.Rule = "does not match a fresh fit of its answer"
 // are the ones the log's answers_imported entries give it.
 const RuleSheetMismatch elicit.Rule = "does not match the answer sheet import in the record's events"
 
-func (r Record) validate(fits []elicit.Fit) error {
-	if r.Format != Version {
+// CheckFormat reports whether r is written in the record format this
+// version reads. A file without "parley_record" is no Parley record (it
+// was said to be "format 0"); one of another format may lay its facts
+// out otherwise, so neither an import nor a fingerprint reads it.
+func (r Record) CheckFormat() error {
+	switch {
+	case r.Format == 0:
+		return inputErr("parley_record", elicit.RuleRequired, "the file is not a Parley record: every record begins with \"parley_record\": %d", Version)
+	case r.Format != Version:
 		return inputErr("parley_record", elicit.RuleUnknown, "format %d; this version reads %d", r.Format, Version)
+	}
+	return nil
+}
+
+func (r Record) validate(fits []elicit.Fit) error {
+	if err := r.CheckFormat(); err != nil {
+		return err
 	}
 	w := r.Workshop
 	if err := checkWorkshop(w); err != nil {
