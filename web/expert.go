@@ -111,9 +111,10 @@ type expertQuestionView struct {
 	// OwnCurve says the panel includes the expert's own current curve;
 	// without it the feedback's words do not promise one.
 	OwnCurve bool
-	// OwnLetter says the expert is one of the panel fed back: their letter
-	// there is left out of their own page, where their curve is "You".
-	OwnLetter bool
+	// OwnLabel is the expert's label in the panel fed back ("Expert C"),
+	// "" when they are not in it: the label is left out of their own
+	// page, where their curve is "You", and the words above it name it.
+	OwnLabel string
 	// Reasons are the other experts' reasons from the feedback round,
 	// under the same labels as their curves; withheld ones are left out.
 	Reasons []feedbackReason
@@ -1308,7 +1309,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		if m.expertID != sc.expert.ID {
 			others = append(others, m)
 		} else {
-			v.OwnLetter = true
+			v.OwnLabel = m.label
 		}
 	}
 	if len(others) == 0 {
@@ -1356,15 +1357,17 @@ func (v expertQuestionView) panelIntro() string {
 // lettering says whose the letters are. They are the room view's, so
 // that the room and the experts can speak of "Expert C" alike; an expert
 // who saw "Expert B, Expert C" and no "Expert A" could not tell that the
-// missing letter was their own, drawn as "You".
+// missing letter was their own, drawn as "You". It names their letter:
+// a revoked expert's letter is missing too (newFeedback), so "the letter
+// missing here" could be either.
 func (v expertQuestionView) lettering() string {
 	switch {
-	case v.OwnCurve && v.OwnLetter:
-		return " Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room, so the letter missing here is yours."
+	case v.OwnCurve && v.OwnLabel != "":
+		return " Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room, where yours is " + v.OwnLabel + "."
 	case v.OwnCurve:
 		return " Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room."
-	case v.OwnLetter:
-		return " The letters are the other experts', as on the facilitator's screen in the room; the letter missing here is yours."
+	case v.OwnLabel != "":
+		return " The letters are the other experts', as on the facilitator's screen in the room, where yours is " + v.OwnLabel + "."
 	}
 	return ""
 }
@@ -1522,19 +1525,24 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	return fb, nil
 }
 
-// newFeedback orders the panel's active experts with a fit by
-// panelOrder and labels them in that order, keeps the reasons the
+// newFeedback orders the panel's experts with a fit by panelOrder and
+// labels them in that order, keeps the active ones with the reasons the
 // facilitator has not withheld, and takes the panel's equal-weight pool.
-// Revisions that cannot be fitted are left out.
+// Revisions that cannot be fitted are left out. A revoked expert keeps
+// their letter, unshown: lettering only the active ones moved every later
+// letter when an expert was revoked mid-round, so the projector's
+// "Expert D" became another expert's curve and reason while the room
+// discussed it, and experts' pages changed under them alike.
 func newFeedback(panel workshop.Panel, salt []byte) *feedback {
 	type keyed struct {
-		key string
-		m   feedbackMember
+		key     string
+		m       feedbackMember
+		revoked bool
 	}
 	q := panel.Question
 	var ks []keyed
 	for _, pm := range panel.Members {
-		if !pm.Fitted() {
+		if pm.Fit == nil {
 			continue
 		}
 		rv := pm.Revision
@@ -1542,11 +1550,14 @@ func newFeedback(panel workshop.Panel, salt []byte) *feedback {
 		if !rv.ReasonWithheld {
 			m.reason, m.reasonRound = strings.TrimSpace(rv.Reason), rv.Round
 		}
-		ks = append(ks, keyed{panelOrder(salt, q.ID, pm.Expert.ID), m})
+		ks = append(ks, keyed{panelOrder(salt, q.ID, pm.Expert.ID), m, pm.Expert.Revoked})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
 	fb := &feedback{poolErr: panel.PoolErr}
 	for i, k := range ks {
+		if k.revoked {
+			continue
+		}
 		k.m.label = panelLabel(i)
 		fb.members = append(fb.members, k.m)
 	}

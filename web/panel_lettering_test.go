@@ -14,9 +14,9 @@ var panelIntroText = regexp.MustCompile(`(?s)<h2>What the other experts said</h2
 // The round-2 panel letters the other experts as the room view does, so an
 // expert sees "Expert B, Expert C" and no "Expert A" beside their own curve,
 // "You". The words above the picture say that the letters are the other
-// experts', as on the facilitator's screen, and that the missing one is
+// experts', as on the facilitator's screen, and name the missing one as
 // theirs; an expert who was not in the panel fed back is told of no
-// missing letter.
+// letter of theirs.
 func TestPanelSaysTheMissingLetterIsYours(t *testing.T) {
 	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei", "Dario Brook")
 	for i := range 3 {
@@ -34,7 +34,7 @@ func TestPanelSaysTheMissingLetterIsYours(t *testing.T) {
 		}
 		return html.UnescapeString(m[1]), otherLabel.FindAllString(wideOnly(page), -1)
 	}
-	const lettering = "Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room, so the letter missing here is yours."
+	const lettering = "Your own curve is marked “You”; the letters are the other experts', as on the facilitator's screen in the room, where yours is Expert "
 	said, labels := intro(0)
 	if len(labels) != 2 {
 		t.Fatalf("Ada's panel letters %d other experts, want 2", len(labels))
@@ -45,11 +45,14 @@ func TestPanelSaysTheMissingLetterIsYours(t *testing.T) {
 	// Each of the three misses a different letter: their own.
 	missing := map[string]bool{}
 	for i := range 3 {
-		_, labels := intro(i)
+		said, labels := intro(i)
 		seen := strings.Join(labels, " ")
 		for _, l := range []string{"Expert A", "Expert B", "Expert C"} {
 			if !strings.Contains(seen, ">"+l+"<") {
 				missing[l] = true
+				if !strings.Contains(said, "where yours is "+l+".") {
+					t.Errorf("expert %d's page misses %s but does not name it as theirs:\n%s", i, l, said)
+				}
 			}
 		}
 	}
@@ -65,7 +68,7 @@ func TestPanelSaysTheMissingLetterIsYours(t *testing.T) {
 	if len(labels) != 3 {
 		t.Fatalf("Dario's panel letters %d other experts, want 3", len(labels))
 	}
-	if !strings.Contains(said, "Your own curve is marked “You”; the letters are the other experts'") || strings.Contains(said, "missing") {
+	if !strings.Contains(said, "Your own curve is marked “You”; the letters are the other experts'") || strings.Contains(said, "yours is") {
 		t.Errorf("Dario, not in the panel fed back, is told of a missing letter, or not whose the letters are:\n%s", said)
 	}
 }
