@@ -202,6 +202,12 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 			verb = "revised"
 		}
 		v.Progress = roomProgress(revised+first, active, verb, ws.Round)
+		if q.Frozen() {
+			// The reveal froze the answers: "No expert has revised this
+			// question in round 2 yet" waited on the wall for revisions
+			// that no expert could save.
+			v.Progress = frozenProgress(revised+first, active, verb, ws.Round)
+		}
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
 		if ws.Archived {
@@ -431,4 +437,16 @@ func roomProgress(answered, active int, verb string, round int) string {
 		return "No expert has " + verb + in + " yet."
 	}
 	return strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " " + plural(active, "expert", "experts") + " " + plural(answered, "has", "have") + " " + verb + in + " so far."
+}
+
+// frozenProgress is roomProgress for a question whose true value was
+// shown while the round was open: no answer can come after the reveal,
+// so it says what came before it, in the past.
+func frozenProgress(answered, active int, verb string, round int) string {
+	closed := "Answers to this question closed when its true value was shown"
+	in := " it in round " + strconv.Itoa(round)
+	if answered == 0 {
+		return closed + "; no expert had " + verb + in + "."
+	}
+	return closed + ", after " + strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " " + plural(active, "expert", "experts") + " had " + verb + in + "."
 }
