@@ -1305,11 +1305,15 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		percent = sc.own[n-1].Answer.Percent && q.ValuesInPercent()
 	}
 	var others []feedbackMember
+	// The expert's own curve is drawn in their letter's style, as the
+	// projector draws it; one not in the panel fed back takes the style
+	// after every letter's.
+	ownSlot := fb.lettered + 1
 	for _, m := range fb.members {
 		if m.expertID != sc.expert.ID {
 			others = append(others, m)
 		} else {
-			v.OwnLabel = m.label
+			v.OwnLabel, ownSlot = m.label, m.slot
 		}
 	}
 	if len(others) == 0 {
@@ -1317,7 +1321,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	}
 	var curves []chart.Curve
 	if own != nil {
-		curves = append(curves, chart.Curve{Label: "You", Prose: "your curve", Role: chart.RoleExpert, Dist: *own})
+		curves = append(curves, chart.Curve{Label: "You", Prose: "your curve", Role: chart.RoleExpert, Dist: *own, Slot: ownSlot})
 		v.OwnCurve = true
 	}
 	id := "panel-q" + strconv.FormatInt(q.ID, 10)
@@ -1334,7 +1338,7 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		return
 	}
 	for _, m := range others {
-		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
+		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist, Slot: m.slot})
 	}
 	if fb.poolErr == nil {
 		curves = append(curves, poolCurve(fb.pool))
@@ -1416,14 +1420,18 @@ func (v expertQuestionView) feedbackUse() string {
 // their equal-weight pool. The room view shows the same.
 type feedback struct {
 	members []feedbackMember
-	pool    elicit.Pool
-	poolErr error
+	// lettered counts the letters given, a revoked expert's included:
+	// the slot after them is free for a curve of the page's own.
+	lettered int
+	pool     elicit.Pool
+	poolErr  error
 }
 
 type feedbackMember struct {
 	expertID int64
 	dist     elicit.ScaledBeta
 	label    string // "Expert A", ... in the panel's order
+	slot     int    // the label's place in that order, from 1: its line style
 	// reason is the reason saved with the judgement fed back, empty when
 	// there is none or the facilitator withheld it; reasonRound is the
 	// round it was given in.
@@ -1553,12 +1561,12 @@ func newFeedback(panel workshop.Panel, salt []byte) *feedback {
 		ks = append(ks, keyed{panelOrder(salt, q.ID, pm.Expert.ID), m, pm.Expert.Revoked})
 	}
 	sort.Slice(ks, func(i, j int) bool { return ks[i].key < ks[j].key })
-	fb := &feedback{poolErr: panel.PoolErr}
+	fb := &feedback{poolErr: panel.PoolErr, lettered: len(ks)}
 	for i, k := range ks {
 		if k.revoked {
 			continue
 		}
-		k.m.label = panelLabel(i)
+		k.m.label, k.m.slot = panelLabel(i), i+1
 		fb.members = append(fb.members, k.m)
 	}
 	if panel.Pool != nil {

@@ -258,7 +258,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	var dists []elicit.ScaledBeta
 	md := &chart.MedianStripView{ID: id + "-medians", Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper}
 	for _, m := range fb.members {
-		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist})
+		curves = append(curves, chart.Curve{Label: m.label, Role: chart.RoleExpert, Dist: m.dist, Slot: m.slot})
 		dists = append(dists, m.dist)
 		md.Labels = append(md.Labels, m.label)
 		md.Medians = append(md.Medians, m.dist.Quantile(0.5))

@@ -25,6 +25,12 @@ type Curve struct {
 	// only: a smooth Beta's percentiles and window are solved for from
 	// them, so wrong ones cost time, never a wrong picture.
 	Percentiles *[3]float64
+	// Slot fixes an expert curve's line style: the k-th style (from 1)
+	// whatever its place in the picture, so that a panel's "Expert B"
+	// is the same line on the projector and on every expert's page,
+	// where "You" comes first and one letter is missing. 0 takes the
+	// curve's place among the picture's experts.
+	Slot int
 }
 
 // proseName is how a sentence under the picture names the curve: Prose

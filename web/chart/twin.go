@@ -602,8 +602,12 @@ func crossing(xs, cdf []float64, p float64) float64 {
 }
 
 // expertIndex counts the experts before curve i, so the k-th expert gets
-// the k-th style whatever other roles are interleaved.
+// the k-th style whatever other roles are interleaved; a curve with a
+// Slot takes that style.
 func expertIndex(curves []Curve, i int) int {
+	if s := curves[i].Slot; s > 0 && curves[i].Role == RoleExpert {
+		return s - 1
+	}
 	n := 0
 	for _, c := range curves[:i] {
 		if c.Role == curves[i].Role {
