@@ -64,6 +64,11 @@ type roomView struct {
 	PastEnd     string // a page past the last, said in words
 	// PrevWords and NextWords name Prev and Next.
 	PrevWords, NextWords string
+
+	// progressRoom is the longest Progress can read through the open
+	// round, which the reasons display lays its pages out for
+	// (layOutReasons), "" where it cannot change.
+	progressRoom string
 }
 
 // roomRound is the round whose close the room shows: while a round is
@@ -202,11 +207,13 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 			verb = "revised"
 		}
 		v.Progress = roomProgress(revised+first, active, verb, ws.Round)
+		v.progressRoom = roomProgress(active, active, "answered or revised", ws.Round)
 		if q.Frozen() {
 			// The reveal froze the answers: "No expert has revised this
 			// question in round 2 yet" waited on the wall for revisions
 			// that no expert could save.
 			v.Progress = frozenProgress(revised+first, active, verb, ws.Round)
+			v.progressRoom = ""
 		}
 	default:
 		v.State = "Round " + strconv.Itoa(ws.Round) + " is closed."
@@ -226,7 +233,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	if q.Retired {
 		// No expert can answer it, so the open round's count of answers
 		// says nothing of it.
-		v.Note, v.Progress = "This question has been retired: experts no longer see it.", ""
+		v.Note, v.Progress, v.progressRoom = "This question has been retired: experts no longer see it.", "", ""
 		return nil
 	}
 	if q.PanelHeld() {
@@ -389,19 +396,32 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 		return
 	}
 	// The header's text as room.templ writes it, for its lines.
-	state := v.State
-	if v.Through > 0 && !v.Held {
-		state += " " + v.shownWords()
-	}
-	state += " " + v.Progress
-	if v.Truth != "" {
-		state += " The true value is " + v.Truth + "."
+	state := func(progress string) string {
+		s := v.State
+		if v.Through > 0 && !v.Held {
+			s += " " + v.shownWords()
+		}
+		s += " " + progress
+		if v.Truth != "" {
+			s += " The true value is " + v.Truth + "."
+		}
+		return s
 	}
 	fp := ""
 	if v.Fingerprint != "" {
 		fp = v.fingerprintLead() + " " + v.Fingerprint + " " + v.fingerprintNote()
 	}
-	pages := pagesOfReasons(v.Reasons, pageScreens([]string{wording, state, fp}))
+	screens := pageScreens([]string{wording, state(v.Progress), fp})
+	if v.progressRoom != "" {
+		// Laid out for the longest count the open round can show: the
+		// count grew a line as experts saved, and the live page moved
+		// its reasons between pages under the room's eyes ("Reasons
+		// 1–11 of 11" became "Reasons 1–9 of 11 (page 1 of 2)").
+		for k, s := range pageScreens([]string{wording, state(v.progressRoom), fp}) {
+			screens[k].Lines = min(screens[k].Lines, s.Lines)
+		}
+	}
+	pages := pagesOfReasons(v.Reasons, screens)
 	if page > len(pages) {
 		// A page that was there before reasons were withheld, or typed:
 		// said, not swapped for another, and the live page follows it.
