@@ -2,6 +2,7 @@ package web
 
 import (
 	"net/http"
+	"strings"
 
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -28,6 +29,9 @@ func (s *Server) changeRound(w http.ResponseWriter, r *http.Request) {
 	round := ws.Round
 	if opening {
 		round = ws.Round + 1
+	}
+	if sent, ok := pageRound(f); ok {
+		round = sent
 	}
 	if f.OK() {
 		f.Fail(ws.CheckRoundChange(round, opening), map[string]string{"round": "action"})
@@ -60,7 +64,11 @@ func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws workshop
 	// While a round is open (a stale tab) the page shows no reopening
 	// field: the refusal goes beside the round's action, which is shown,
 	// before any reason is asked for.
-	if err := ws.CheckReopen(); err != nil {
+	round := ws.Round
+	if sent, ok := pageRound(f); ok {
+		round = sent
+	}
+	if err := ws.CheckReopenOf(round); err != nil {
 		f.Fail(err, nil)
 		s.showOverview(w, r, http.StatusUnprocessableEntity, ws, workshopView{RoundForm: f})
 		return
@@ -84,4 +92,17 @@ func (s *Server) reopenRound(w http.ResponseWriter, r *http.Request, ws workshop
 	}
 	s.roundGen.Add(1)
 	http.Redirect(w, r, workshopPath(ws.ID)+"#rounds", http.StatusSeeOther)
+}
+
+// pageRound is the round the page's button named ("Close round 1"), sent
+// with its form; ok is false when the post carries none (a script), and
+// the action then takes the workshop's round as it stands. Without it, a
+// page left open in another tab, or brought back by the back button, said
+// "Close round 1" and closed round 2 a minute after it opened, with the
+// experts at their answers; its "Open round 2" opened round 3.
+func pageRound(f *Form) (int, bool) {
+	if strings.TrimSpace(f.Value("round")) == "" {
+		return 0, false
+	}
+	return f.Int("round", 1, workshop.MaxRounds), true
 }

@@ -159,6 +159,19 @@ func (w Workshop) CheckReopen() error {
 	return nil
 }
 
+// CheckReopenOf is CheckReopen for the round a page named: reopening
+// round `round` is refused when w's last closed round is another, as a
+// page from before a later round's close would ask.
+func (w Workshop) CheckReopenOf(round int) error {
+	if err := w.CheckReopen(); err != nil {
+		return err
+	}
+	if round != w.Round {
+		return inputErr("action", RuleRoundSequence, "the last closed round is %d, not %d", w.Round, round)
+	}
+	return nil
+}
+
 // StillAnswers checks, when an answer is saved, that a and its kept fit
 // (nil when none is kept) answer q as q now stands. A question may be
 // corrected in every part until its first answer is saved, so an answer
