@@ -556,10 +556,14 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 			out.Experts[a.expert].N++
 		}
 	}
-	var maxCal *score
 	for e := range out.Experts {
 		es := &out.Experts[e]
 		es.Calibration, es.LogCalibration = calibrationLog(counts[e], es.N, s.binP)
+	}
+	sameScores(out.Experts)
+	var maxCal *score
+	for e := range out.Experts {
+		es := &out.Experts[e]
 		es.Information = info[e] / float64(es.N)
 		es.Combined = es.Calibration * es.Information
 		if c := scoreOf(*es); es.Information > 0 && (maxCal == nil || maxCal.below(c)) {
@@ -594,6 +598,32 @@ func (s *seedSet) score(alpha *float64) (Scores, error) {
 	}
 	out.Pooled, out.Questions = s.weightedPool(w)
 	return out, nil
+}
+
+// sameScoreTol is how far apart, relative, two experts' ln C may be in
+// doubles and still be one score: rounding leaves a few units in the last
+// place (about 1e-16 relative); scores that differ do so by far more.
+const sameScoreTol = 1e-12
+
+// sameScores gives experts whose calibration scores agree to
+// sameScoreTol in ln C one score, the smallest of them, so that the
+// cut-off keeps them or leaves them out together. C depends on the
+// counts through I(s, p) alone, and different counts often give the same
+// I: at 5/50/95 [0, 1, 1, 2] and [1, 0, 2, 1] (the same shares, and as
+// much of them on the outer bins), at 10/50/90 [0, 1, 1, 1] and
+// [0, 1, 2, 0] (ln 0.4 = 2 ln 2 + ln 0.1). Summed as Σ sⱼ ln(sⱼ/pⱼ) such
+// scores came out a few units in the last place apart, and a cut-off at
+// the higher kept one expert and left out the other (found in review;
+// binProbs and relativeInformation make only mirrored counts agree).
+func sameScores(es []ExpertScore) {
+	for i := range es {
+		for j := range es {
+			a, b := scoreOf(es[i]), scoreOf(es[j])
+			if b.below(a) && a.log-b.log <= sameScoreTol*math.Max(-a.log, -b.log) {
+				es[i].Calibration, es[i].LogCalibration = b.c, b.log
+			}
+		}
+	}
 }
 
 // score is a calibration score and its logarithm, ordered by the score
