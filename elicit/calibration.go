@@ -1048,6 +1048,12 @@ func (d PiecewiseUniform) Quantile(p float64) float64 {
 	if k == n {
 		return d.X[n-1]
 	}
+	if d.F[k] == p {
+		// The knot itself: interpolated from the knot before, it could
+		// come out a unit in the last place beside it, and a realisation
+		// equal to it then fell in the bin above.
+		return d.X[k]
+	}
 	dF := d.F[k] - d.F[k-1]
 	if dF <= 0 {
 		return d.X[k-1]

@@ -59,6 +59,7 @@ FILES = [
     "testdata/calibration/mirror_seeds.csv",
     "testdata/calibration/single_question_seeds.csv",
     "testdata/calibration/five_quantile_seeds.csv",
+    "testdata/calibration/shared_median_seeds.csv",
 ]
 K = 0.1
 
