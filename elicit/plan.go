@@ -160,15 +160,29 @@ func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
 // ln B(x + a, n − x + b), a number near n log 2, up to 5e-10 relative at
 // 10⁶ trials (it was 4e-9 while ln C(n, x) came from lgamma differences),
 // so the sum itself can read 0.9999999994 where the outcomes outside hold
-// 1e-44.
+// 1e-44. A span of more than half the outcomes whose 1 minus the others
+// is below smallSpanSum is summed itself: that difference keeps only the
+// rounding of the others' sum, so an assurance of 1.16e-15 (Beta(49.9,
+// 224.3), 1000 trials, P(θ > 0.347 | data) ≥ 0.99 from 433 successes)
+// read 1.11e-15, and one of 1.6e-19 read 0 (found in review); a tail is
+// summed from its inner end outwards, stopped once a bound on the rest is
+// below 1e-17 of the sum (predictiveTerms.tail).
 func predictiveSum(prior Beta, n, from, to int) float64 {
 	if from > to {
 		return 0
 	}
-	if 2*(to-from+1) > n+1 {
-		return math.Max(0, 1-predictiveSum(prior, n, 0, from-1)-predictiveSum(prior, n, to+1, n))
-	}
 	t := newPredictiveTerms(prior, n)
+	if 2*(to-from+1) > n+1 {
+		r := math.Max(0, 1-predictiveSum(prior, n, 0, from-1)-predictiveSum(prior, n, to+1, n))
+		switch {
+		case r >= smallSpanSum:
+			return r
+		case to == n:
+			return t.tail(from, 1, 1e-17)
+		case from == 0:
+			return t.tail(to, -1, 1e-17)
+		}
+	}
 	var sum neumaierSum
 	if from == 0 || to != n && from < n-to {
 		for x := from; x <= to; x++ {
@@ -246,7 +260,18 @@ func lnChoose(n, k int) float64 {
 // when R < 1 the terms after one of size p add up to at most p·R/(1 − R).
 // When no such R exists (b < 1 rightwards, a < 1 leftwards: the
 // predictive rises towards that end) every outcome is summed.
-func (t predictiveTerms) outside(x, step int) float64 {
+func (t predictiveTerms) outside(x, step int) float64 { return t.tail(x, step, 0) }
+
+// smallSpanSum is the largest sum of predictive probabilities that
+// predictiveSum forms as 1 minus the others only when the span is short:
+// below it, the rounding of the others' sum (up to 5e-10 at 10⁶ trials)
+// would be more than 1e-6 of it.
+const smallSpanSum = 1e-3
+
+// tail is outside, stopped instead once the bound on the rest is below
+// rel times the sum so far, where rel > 0: a small sum, such as a small
+// assurance, then keeps its relative precision.
+func (t predictiveTerms) tail(x, step int, rel float64) float64 {
 	var sum neumaierSum
 	fn := float64(t.n)
 	aUp, bUp := t.a >= 1, t.b >= 1 // the a or the b factor falls onwards
@@ -273,7 +298,11 @@ func (t predictiveTerms) outside(x, step int) float64 {
 				r *= far
 			}
 		}
-		if r < 1 && p*r/(1-r) < 1e-18 {
+		stop := 1e-18
+		if rel > 0 {
+			stop = rel * sum.sum()
+		}
+		if r < 1 && p*r/(1-r) < stop {
 			break
 		}
 	}

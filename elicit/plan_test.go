@@ -152,6 +152,42 @@ func TestAssuranceAgainstSciPy(t *testing.T) {
 	}
 }
 
+// TestSmallAssuranceOverALongSpan: an assurance that succeeds on more
+// than half the outcomes but holds little probability keeps its relative
+// precision, against SciPy's log-sum-exp of the successful outcomes'
+// beta-binomial probabilities (testdata/scipy/small_assurance_reference.py,
+// O'Hagan, Stevens & Campbell 2005's definition). Taken as 1 minus the
+// other outcomes it kept only their sum's rounding: 1.11e-15 for
+// 1.156e-15, 0 for 1.6e-19 (found in review).
+func TestSmallAssuranceOverALongSpan(t *testing.T) {
+	for _, r := range referenceTable(t, "../testdata/scipy/small_assurance_reference.csv", "# scipy 1.10.1", 9) {
+		var v [9]float64
+		for i, c := range r {
+			if i == 4 {
+				continue
+			}
+			f, err := strconv.ParseFloat(c, 64)
+			if err != nil {
+				t.Fatal(err)
+			}
+			v[i] = f
+		}
+		goal := SuccessCriterion{Threshold: v[3], Direction: Direction(r[4]), Confidence: v[5]}
+		got, err := Assurance(Beta{v[0], v[1]}, int(v[2]), goal)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.SuccessFrom != int(v[6]) || got.SuccessTo != int(v[7]) {
+			t.Errorf("%v: successes %d to %d, SciPy %v to %v", r, got.SuccessFrom, got.SuccessTo, v[6], v[7])
+		}
+		// Each probability carries the rounding of ln B(x + a, n − x + b),
+		// a number near n ln 2: about 1e-11 relative at 10⁵ trials.
+		if math.Abs(got.Assurance-v[8]) > 1e-9*v[8] {
+			t.Errorf("%v: assurance %.15g, SciPy %.15g", r, got.Assurance, v[8])
+		}
+	}
+}
+
 // TestAssuranceCurveTeeth: the assurance curve of Beta(2, 38) for
 // P(θ < 0.08) ≥ 0.95 rises with n overall but falls back where another
 // outcome joins the failures: SciPy's curve over n = 1…120 has such
