@@ -770,9 +770,33 @@ func (s *seedSet) poolQuestion(q seedQuestion, w []float64) (PiecewiseUniform, b
 	}
 	for k := range f {
 		f[k] /= sum
+		// Where every expert with weight has the same CDF at a knot (a
+		// quantile they share), so has the pool; the weighted mean of
+		// equal values rounds away from them (0.1 · Σ wᵢ / Σ wᵢ above
+		// 0.1), and a true value equal to the shared quantile fell in
+		// the bin above the pool's.
+		if v, ok := sameCDFAt(q.cdfAt, q.answers, w, k); ok {
+			f[k] = v
+		}
 	}
 	f[0], f[len(f)-1] = 0, 1
 	return PiecewiseUniform{X: q.knots, F: f}, true
+}
+
+// sameCDFAt is the value at knot k of the CDFs of the answers with
+// weight under w, and whether they all have that one value.
+func sameCDFAt(cdfAt [][]float64, answers []seedAnswer, w []float64, k int) (float64, bool) {
+	v, seen := 0.0, false
+	for i, a := range answers {
+		if w[a.expert] <= 0 {
+			continue
+		}
+		if seen && cdfAt[i][k] != v {
+			return 0, false
+		}
+		v, seen = cdfAt[i][k], true
+	}
+	return v, seen
 }
 
 // prepareKnots sets q's knots, the union of L*, U* and every answer's
