@@ -25,6 +25,29 @@ type onBehalf struct {
 	Revoked      bool
 	Channel      string
 	ChannelError string
+	// ReasonNote says what the reason's box holds when the expert's
+	// current answer, of this round, has reasoning (carriedReason).
+	ReasonNote string
+}
+
+// carriedReason is the reasoning the entry form starts with: the one
+// saved with the expert's current answer when that answer is of the
+// open round, so that an entry correcting a mistyped value keeps it. The
+// box started empty, and a correction saved without retyping it left
+// the expert's current answer, the one the feedback, the reasons page
+// and the room show, without their reasoning. A reasoning the
+// facilitator withheld from the feedback is not carried (saved again, it
+// would be shown), nor one of an earlier round, which the expert has not
+// restated. note says which, for the box's hint.
+func carriedReason(ws workshop.Workshop, own []workshop.Revision) (reason, note string) {
+	n := len(own)
+	if n == 0 || own[n-1].Round != ws.Round || own[n-1].Reason == "" {
+		return "", ""
+	}
+	if own[n-1].ReasonWithheld {
+		return "", "The reasoning saved with their current answer is withheld from the feedback, so it is not carried into this entry."
+	}
+	return own[n-1].Reason, "The box holds the reasoning saved with their current answer; it is saved again with this entry unless you change it."
 }
 
 // entryView is the facilitator's page for entering one question's
@@ -107,7 +130,8 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	v := s.entryView(sc, own, typed, "", string(channel))
+	reason, _ := carriedReason(sc.ws, own)
+	v := s.entryView(sc, own, typed, reason, string(channel))
 	v.Form.Preview = preview
 	v.Saved = s.takeConfirmation(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID), doneSaved) == doneSaved
 	s.renderEntry(w, r, http.StatusOK, v)
@@ -142,6 +166,9 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 		OnBehalf: &onBehalf{Expert: sc.e.Name, Revoked: sc.e.Revoked, Channel: channel},
 	}
 	fv.Form.Reason = reason
+	if carried, note := carriedReason(sc.ws, own); note != "" && (carried == "" || carried == reason) {
+		fv.OnBehalf.ReasonNote = note
+	}
 	if fv.Frozen {
 		if n := len(own); n > 0 {
 			fv.Form = newAnswerForm(sc.q, answerValues(sc.q, own[n-1].Answer), sc.speaker())
