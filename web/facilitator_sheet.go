@@ -349,7 +349,8 @@ func failSheet(f *Form, err error) {
 }
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
-// when the round is closed.
+// when the round is closed or a row repeats a current answer
+// (answersheet.SameAsCurrent).
 func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]answersheet.Row, error) {
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
@@ -362,6 +363,12 @@ func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) 
 	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
 	if err == nil && !ws.Open {
 		err = answersheet.RoundClosed(ws.Round, rows)
+	}
+	if err == nil {
+		var cur map[workshop.Key]workshop.Revision
+		if cur, err = s.currentAnswers(r, ws); err == nil {
+			err = answersheet.SameAsCurrent(rows, cur, ws.Round)
+		}
 	}
 	return rows, err
 }

@@ -126,6 +126,9 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return fail(stderr, "import-answers", err)
 	}
 	cur := workshop.Current(revs, nil)
+	if err := answersheet.SameAsCurrent(rows, cur, ws.Round); err != nil {
+		return fail(stderr, "import-answers", err)
+	}
 	// The listing is printed once the rows are saved (or, with
 	// --dry-run, checked): printed before a save that was then refused,
 	// it listed rows as if saved above the refusal.

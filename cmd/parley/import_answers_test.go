@@ -233,7 +233,9 @@ func TestImportAnswersSaysWhatARowFollows(t *testing.T) {
 	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
 		t.Fatalf("import: %d %q %q", code, out, errOut)
 	}
-	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet, "--dry-run"); code != 0 || strings.Contains(out, "follows") {
+	// The same row again would save nothing new (TestImportAnswersRefusesASheetSavedAlready).
+	again := writeSheet(t, "expert,question,q05,q50,q95\nInes,Q2,0.1,0.3,0.65\n")
+	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", again, "--dry-run"); code != 0 || strings.Contains(out, "follows") {
 		t.Fatalf("after the facilitator's entry: %d %q %q", code, out, errOut)
 	}
 }
@@ -254,5 +256,59 @@ func TestImportAnswersRefusedAtTheSavePrintsNoRows(t *testing.T) {
 	code, out, errOut := run("import-answers", "--db", path, "--workshop", strconv.FormatInt(ws, 10), "--in", sheet)
 	if code == exitOK || out != "" || !strings.Contains(errOut, "refused for the test") {
 		t.Errorf("exit %d, stdout %q, stderr %q; want a failure and nothing on stdout", code, out, errOut)
+	}
+}
+
+// The same sheet imported a second time in its round (the command run
+// again) is refused, exit 2, naming the first row that repeats its
+// expert's current answer and the others, and saves nothing; it had
+// saved every row again, a judgement given once recorded twice. A row
+// whose reasoning differs is saved, and so is the same sheet in the next
+// round, where it is that round's judgement.
+func TestImportAnswersRefusesASheetSavedAlready(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	w := strconv.FormatInt(ws, 10)
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,Her notes (invented).\nJomo,2,20%,35%,50%,\n")
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
+		t.Fatalf("first import: %d %q %q", code, out, errOut)
+	}
+	before := len(revisionsIn(t, path, ws))
+	for _, dry := range []bool{true, false} {
+		args := []string{"import-answers", "--db", path, "--workshop", w, "--in", sheet}
+		if dry {
+			args = append(args, "--dry-run")
+		}
+		code, out, errOut := run(args...)
+		if code != 2 || out != "" || !strings.Contains(errOut, "row 2, column question: repeats the expert's current answer of this round") ||
+			!strings.Contains(errOut, "Ines's answer to Q2 is already this one: you entered it at ") || !strings.Contains(errOut, "row 3 repeats a current answer too") {
+			t.Fatalf("the same sheet again (dry run %v): %d %q %q", dry, code, out, errOut)
+		}
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("the refused sheet saved %d revisions", n-before)
+	}
+	// Jomo's values typed as proportions are the same judgement.
+	same := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n")
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", same); code != 2 || !strings.Contains(errOut, "Jomo's answer to Q2 is already this one") {
+		t.Fatalf("Jomo's answer in proportions: %d %q", code, errOut)
+	}
+	reason := writeSheet(t, "expert,question,q05,q50,q95,reason\nJomo,2,0.2,0.35,0.5,Said on the phone (invented).\n")
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", reason); code != 0 || !strings.Contains(out, "saved 1 judgement") {
+		t.Fatalf("a new reasoning: %d %q %q", code, out, errOut)
+	}
+	db, err := store.Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	err = db.SetRound(context.Background(), ws, 1, false, "")
+	if err == nil {
+		err = db.SetRound(context.Background(), ws, 2, true, "The next round (invented).")
+	}
+	db.Close()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 || !strings.Contains(out, "saved 2 judgements in round 2") {
+		t.Fatalf("the sheet in round 2: %d %q %q", code, out, errOut)
 	}
 }
