@@ -183,6 +183,15 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\r,,,,\rAda Quell,Q1,0.02,0.06,0.15\r\"Bruno Ferrante\",Q1,0.01,0.03,0.08\r"), g.qs, g.experts); err != nil || len(rows) != 2 || rows[1].Line != 4 || rows[1].Answer.Values[2] != 0.08 {
 		t.Errorf("lines ended by a carriage return: %+v %v", rows, err)
 	}
+	// Such a file writes a line break typed in a cell as a line feed:
+	// with a reason in two paragraphs the sheet was one header row,
+	// refused as "row 1, column 11: a quote mark (") inside a cell must
+	// be doubled".
+	mac := "expert,question,q05,q50,q95,reason\rAda Quell,Q1,0.02,0.06,0.15,\"Logs, 2019\nand \"\"2024\"\" (invented)\"\r\"Bruno Ferrante\",Q1,0.01,0.03,0.08,\r"
+	if rows, err := answersheet.Read(strings.NewReader(mac), g.qs, g.experts); err != nil || len(rows) != 2 || rows[1].Line != 3 ||
+		rows[0].Reason != "Logs, 2019\nand \"2024\" (invented)" || rows[1].Answer.Values[2] != 0.08 {
+		t.Errorf("lines ended by a carriage return, a line feed in a cell: %+v %v", rows, err)
+	}
 	// A comment above the header may hold a semicolon: the header is
 	// what tells a sheet's separator.
 	if rows, err := answersheet.Read(strings.NewReader("# From Ada; by phone (invented)\nexpert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); err != nil || len(rows) != 1 || rows[0].Line != 3 {

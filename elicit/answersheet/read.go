@@ -99,13 +99,40 @@ func InUTF16(b []byte) bool {
 // make a quoted first header cell a bare quote. Its "CSV (Macintosh)"
 // ends its lines with a carriage return alone, which CSV reads as part
 // of a cell: the whole sheet was one row, its header quoted back as
-// "q95\rada quell".
+// "q95\rada quell". Such a file still writes a line break typed inside
+// a cell (a reason in two paragraphs) as a line feed, in quote marks, so
+// its lines are told by the line feeds outside quoted cells: with one
+// such reason the whole sheet was one header row, refused as a quote
+// mark not doubled.
 func SpreadsheetLines(b []byte) []byte {
 	body := bytes.TrimPrefix(b, []byte("\ufeff"))
-	if bytes.IndexByte(body, '\n') < 0 {
-		body = bytes.ReplaceAll(body, []byte("\r"), []byte("\n"))
+	if bytes.IndexByte(body, '\r') < 0 || lineFeedOutsideQuotes(body) {
+		return body
 	}
-	return body
+	out := make([]byte, len(body))
+	for i, c := range body {
+		if c == '\r' && (i+1 == len(body) || body[i+1] != '\n') {
+			c = '\n'
+		}
+		out[i] = c
+	}
+	return out
+}
+
+// lineFeedOutsideQuotes says a CSV file ends a line with a line feed
+// somewhere outside a quoted cell (a quote mark opens and closes one; a
+// doubled one inside it closes and opens again).
+func lineFeedOutsideQuotes(body []byte) bool {
+	quoted := false
+	for _, c := range body {
+		switch {
+		case c == '"':
+			quoted = !quoted
+		case c == '\n' && !quoted:
+			return true
+		}
+	}
+	return false
 }
 
 // OtherSeparator names what separates a CSV file's columns where its
