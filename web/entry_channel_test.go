@@ -51,3 +51,27 @@ func TestEntryAsksHowItReachedYou(t *testing.T) {
 		t.Errorf("the next entry does not offer the last one's channel:\n%s", sel)
 	}
 }
+
+// A judgement imported from an answer sheet is no entry on the form: the
+// form went on to offer "from a spreadsheet file" for the expert's next
+// entry, taken by phone, and saved untruly if not looked at. It asks, or
+// offers the way the last entry on the form came.
+func TestEntryAfterASheetAsksHowItReachedYou(t *testing.T) {
+	g := newSheetRig(t)
+	ada := g.experts[0]
+	g.uploadSheet(t, "monday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n", "file")
+	page := entryPath(g.ws.ID, g.qs[3].ID, ada.ID)
+	_, body := g.h.get(page)
+	if sel := selectedChannel.FindString(body); !strings.Contains(sel, `<option value="" selected>choose…</option>`) || strings.Count(sel, "selected") != 1 {
+		t.Fatalf("after a sheet, the entry's channel is chosen for the facilitator:\n%s", sel)
+	}
+	form := url.Values{"channel": {"phone"}, "values[0]": {"0.1"}, "values[1]": {"0.15"}, "values[2]": {"0.2"}}
+	if r, _ := g.h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save by phone: %d", r.StatusCode)
+	}
+	g.uploadSheet(t, "tuesday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.07,0.15\n", "file")
+	_, body = g.h.get(entryPath(g.ws.ID, g.qs[0].ID, ada.ID))
+	if sel := selectedChannel.FindString(body); !strings.Contains(sel, `<option value="phone" selected>`) {
+		t.Errorf("after a sheet, the entry does not offer the last entry's channel:\n%s", sel)
+	}
+}

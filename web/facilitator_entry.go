@@ -125,7 +125,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 			preview = newPreview(sc.q, fit, own[n-1].Answer.Percent, sc.speaker())
 		}
 	}
-	channel, err := s.lastChannel(r, sc.e.ID)
+	channel, err := s.lastChannel(r, sc.ws.ID, sc.e.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -137,18 +137,27 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	s.renderEntry(w, r, http.StatusOK, v)
 }
 
-// lastChannel is how the facilitator's last entry for the expert reached
-// them, the likeliest way for the next; "" when they have entered none,
-// so the form asks. It used to offer "said in the session" to every
-// expert, and an entry taken by phone and saved without changing it was
-// recorded, untruly, as said in the room.
-func (s *Server) lastChannel(r *http.Request, expertID int64) (workshop.Channel, error) {
+// lastChannel is how the facilitator's last entry on this form for the
+// expert reached them, the likeliest way for the next; "" when they have
+// entered none, so the form asks. It used to offer "said in the session"
+// to every expert, and an entry taken by phone and saved without changing
+// it was recorded, untruly, as said in the room. A judgement imported
+// from an answer sheet is no entry on this form: after one, the form
+// offered "from a spreadsheet file" for the expert's next call.
+func (s *Server) lastChannel(r *http.Request, wsID, expertID int64) (workshop.Channel, error) {
 	revs, err := s.store.ExpertRevisions(r.Context(), expertID)
+	if err != nil {
+		return "", err
+	}
+	sheets, err := s.sheetSources(r.Context(), wsID, nil)
 	if err != nil {
 		return "", err
 	}
 	var last workshop.Revision
 	for _, rv := range revs {
+		if _, fromSheet := sheets[rv.ID]; fromSheet {
+			continue
+		}
 		if rv.EnteredBy == workshop.ByFacilitator && (last.ID == 0 || rv.At.After(last.At) || (rv.At.Equal(last.At) && rv.ID > last.ID)) {
 			last = rv
 		}
