@@ -438,10 +438,39 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		if ie.Field == "confidence" {
 			return row, rowErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
 		}
-		return row, &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: ie.Detail}
+		detail := ie.Detail
+		if ie.Rule == elicit.RuleValueInBounds && typed == 0 && percentsWithoutSign(q, a) {
+			detail += "; if the row's values are percentages, write each with its sign, such as 5%"
+		}
+		return row, &elicit.InputError{Field: fmt.Sprintf("row %d, column %s", line, column), Rule: ie.Rule, Detail: detail}
 	}
 	row.Answer, row.Fit = a, fit
 	return row, nil
+}
+
+// percentsWithoutSign says an answer to a proportion, typed without any
+// % sign, has values that read as percentages: every one above 0, none
+// above 100, and most above 1 (0.02, 0.06, 15 is more likely a slip). A paper form's "5, 15, 35" typed so was
+// refused only as 5 not inside (0, 1), where the expert's form, set to
+// percentages, reads them so.
+func percentsWithoutSign(q workshop.Question, a workshop.Answer) bool {
+	if !q.ValuesInPercent() {
+		return false
+	}
+	vs := a.Values
+	if q.Format == workshop.FormatInterval {
+		vs = []float64{a.Lowest, a.Best, a.Highest}
+	}
+	above := 0
+	for _, v := range vs {
+		if v <= 0 || v > 100 {
+			return false
+		}
+		if v > 1 {
+			above++
+		}
+	}
+	return 2*above > len(vs)
 }
 
 // underColumn puts a cell's parse error under its row and column.
