@@ -67,6 +67,45 @@ func (v expertHomeView) roundNext() string {
 		"You can revise your answers while the round is open; an answer you leave as it is stays your judgement."
 }
 
+// progress says, on a long list, where the expert stands: how many of the
+// questions have their answer, and which is the first still waiting for
+// one. A workshop of 25 questions put the first unanswered one some
+// 3,000 px down a phone's list, found only by reading every tag.
+func (v expertHomeView) progress() string {
+	answered, now := 0, 0
+	for _, q := range v.Questions {
+		if q.Answered || q.Earlier {
+			answered++
+		}
+		if q.Answered {
+			now++
+		}
+	}
+	total := len(v.Questions)
+	switch {
+	case answered < total:
+		return "You have answered " + strconv.Itoa(answered) + " of the " + strconv.Itoa(total) + " questions."
+	case v.Round > 1:
+		some := strconv.Itoa(now) + " of them"
+		if now == 0 {
+			some = "none of them"
+		}
+		return "You have answered all " + strconv.Itoa(total) + " questions, " + some + " in round " + strconv.Itoa(v.Round) + "."
+	}
+	return "You have answered all " + strconv.Itoa(total) + " questions. You can revise any of them while the round is open."
+}
+
+// firstUnanswered is the first question in the list that has no answer
+// from the expert and can still take one.
+func (v expertHomeView) firstUnanswered() (expertQuestionItem, bool) {
+	for _, q := range v.Questions {
+		if !q.Answered && !q.Earlier && !q.Revealed {
+			return q, true
+		}
+	}
+	return expertQuestionItem{}, false
+}
+
 type expertQuestionItem struct {
 	Href     string
 	Position int
