@@ -97,11 +97,7 @@ func (h *heldResponse) send() {
 			if h.gzip && body.Len() >= gzipFrom {
 				z := getBuffer()
 				defer putBuffer(z)
-				gw := gzipWriters.Get().(*gzip.Writer)
-				gw.Reset(z)
-				_, _ = gw.Write(body.Bytes())
-				_ = gw.Close()
-				gzipWriters.Put(gw)
+				gzipInto(z, body.Bytes())
 				hdr.Set("Content-Encoding", "gzip")
 				body = z
 			}
@@ -115,6 +111,15 @@ func (h *heldResponse) send() {
 // gzipFrom is the smallest page worth gzipping: below it the gzip
 // header and the work outweigh the bytes saved.
 const gzipFrom = 1024
+
+// gzipInto writes b gzipped into z.
+func gzipInto(z *bytes.Buffer, b []byte) {
+	gw := gzipWriters.Get().(*gzip.Writer)
+	gw.Reset(z)
+	_, _ = gw.Write(b)
+	_ = gw.Close()
+	gzipWriters.Put(gw)
+}
 
 // gzipWriters are kept for reuse: each holds some hundreds of kB of
 // compressor state. The fastest level makes a fifth of a page as it is.
