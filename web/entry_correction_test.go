@@ -116,3 +116,32 @@ func TestCorrectedEntryLeavesAWithheldReasoningOut(t *testing.T) {
 		t.Error("the page does not say the withheld reasoning is left out")
 	}
 }
+
+// In a closed round no entry is saved, so the entry page carries no
+// reasoning and does not say it is "saved again with this entry"; once
+// the round is reopened it carries it again.
+func TestClosedRoundEntryCarriesNoReasoning(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Culvert survey (invented)")
+	q := h.addQuantileQuestion(t, ws.ID, "What share of culverts are blocked?", "blocked culvert share")
+	ada, _ := h.addExpert(ws, "Ada Quell")
+	page := entryPath(ws.ID, q.ID, ada.ID)
+	form := url.Values{"channel": {"phone"}, "unit": {"proportion"}, "values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"},
+		"reason": {"Silt after the spring floods (invented)."}}
+	if r, body := h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("entry: %d %s", r.StatusCode, body)
+	}
+	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d %s", r.StatusCode, body)
+	}
+	if _, body := h.get(page); strings.Contains(body, "saved again with this entry") {
+		t.Error("in a closed round the entry page says the reasoning is saved again with this entry")
+	}
+	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"reopen"}, "reopen_reason": {"One more answer (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reopen: %d %s", r.StatusCode, body)
+	}
+	if _, body := h.get(page); !strings.Contains(body, "saved again with this entry") {
+		t.Error("in the reopened round the entry page does not carry the reasoning")
+	}
+}

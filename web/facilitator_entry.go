@@ -38,10 +38,12 @@ type onBehalf struct {
 // and the room show, without their reasoning. A reasoning the
 // facilitator withheld from the feedback is not carried (saved again, it
 // would be shown), nor one of an earlier round, which the expert has not
-// restated. note says which, for the box's hint.
+// restated, nor any while the round is closed, when no entry is saved
+// (the hint said it was "saved again with this entry"). note says which,
+// for the box's hint.
 func carriedReason(ws workshop.Workshop, own []workshop.Revision) (reason, note string) {
 	n := len(own)
-	if n == 0 || own[n-1].Round != ws.Round || own[n-1].Reason == "" {
+	if n == 0 || !ws.Open || own[n-1].Round != ws.Round || own[n-1].Reason == "" {
 		return "", ""
 	}
 	if own[n-1].ReasonWithheld {
