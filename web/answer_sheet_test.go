@@ -206,6 +206,19 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if rows, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\nDara O\u2019Neil (invented),Q1,0.02,0.06,0.15\n"), g.qs, append(append([]workshop.Expert(nil), g.experts...), oneil)); err != nil || rows[0].Expert.ID != oneil.ID {
 		t.Errorf("a name with a curly apostrophe: %+v %v", rows, err)
 	}
+	// A first line "sep=," (written, and hidden, by some spreadsheets)
+	// names the separator: the header follows. It was refused as a
+	// header naming a column "sep=". One naming semicolons is refused as
+	// a sheet not separated by commas.
+	for _, sep := range []string{"sep=,\n", "SEP=,\r\n", "\ufeff\"sep=,\"\r\n"} {
+		rows, err := answersheet.Read(strings.NewReader(sep+"expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts)
+		if err != nil || len(rows) != 1 || rows[0].Answer.Values[2] != 0.15 {
+			t.Errorf("%q before the header: %+v %v", sep, rows, err)
+		}
+	}
+	if _, err := answersheet.Read(strings.NewReader("sep=;\nexpert;question;q05;q50;q95\nAda Quell;Q1;0.02;0.06;0.15\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleCommas {
+		t.Errorf("sep=; before a header of semicolons: %v", err)
+	}
 	// Only empty rows: no rows.
 	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
 		t.Errorf("a sheet of empty rows: %v", err)

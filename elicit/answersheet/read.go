@@ -104,19 +104,37 @@ func InUTF16(b []byte) bool {
 // its lines are told by the line feeds outside quoted cells: with one
 // such reason the whole sheet was one header row, refused as a quote
 // mark not doubled.
+//
+// A first line "sep=," (which some spreadsheets write, and read, to name
+// the separator) is read as an empty line, so the rows keep their
+// numbers; one naming another separator stays, and is refused as the
+// header of a sheet not separated by commas (OtherSeparator). It was
+// refused as a header naming an unknown column "sep=".
 func SpreadsheetLines(b []byte) []byte {
 	body := bytes.TrimPrefix(b, []byte("\ufeff"))
-	if bytes.IndexByte(body, '\r') < 0 || lineFeedOutsideQuotes(body) {
+	if bytes.IndexByte(body, '\r') >= 0 && !lineFeedOutsideQuotes(body) {
+		out := make([]byte, len(body))
+		for i, c := range body {
+			if c == '\r' && (i+1 == len(body) || body[i+1] != '\n') {
+				c = '\n'
+			}
+			out[i] = c
+		}
+		body = out
+	}
+	return dropCommaSeparatorLine(body)
+}
+
+// dropCommaSeparatorLine reads a first line "sep=," (in any letter case,
+// in quote marks or not, with a line break of either kind) as an empty
+// line.
+func dropCommaSeparatorLine(body []byte) []byte {
+	first, rest, found := bytes.Cut(body, []byte("\n"))
+	line := bytes.Trim(bytes.TrimRight(first, "\r"), `"`)
+	if !found || !bytes.EqualFold(bytes.TrimSpace(line), []byte("sep=,")) {
 		return body
 	}
-	out := make([]byte, len(body))
-	for i, c := range body {
-		if c == '\r' && (i+1 == len(body) || body[i+1] != '\n') {
-			c = '\n'
-		}
-		out[i] = c
-	}
-	return out
+	return append([]byte("\n"), rest...)
 }
 
 // lineFeedOutsideQuotes says a CSV file ends a line with a line feed
