@@ -219,6 +219,17 @@ func TestAnswerSheetAsSpreadsheetsWriteIt(t *testing.T) {
 	if _, err := answersheet.Read(strings.NewReader("sep=;\nexpert;question;q05;q50;q95\nAda Quell;Q1;0.02;0.06;0.15\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleCommas {
 		t.Errorf("sep=; before a header of semicolons: %v", err)
 	}
+	// A quantile's column written without its zero, or with a % sign,
+	// is refused naming the column the workshop has.
+	for h, want := range map[string]string{"q5": `"q05"`, "q5%": `"q05"`, "Q95%": `"q95"`} {
+		_, err := answersheet.Read(strings.NewReader("expert,question,"+h+",q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts)
+		if !errors.As(err, &ie) || ie.Rule != answersheet.RuleHeader || !strings.HasSuffix(ie.Detail, "; the workshop has "+want) {
+			t.Errorf("header %q: %v, want it to name %s", h, err, want)
+		}
+	}
+	if _, err := answersheet.Read(strings.NewReader("expert,question,q050,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n"), g.qs, g.experts); !errors.As(err, &ie) || strings.Contains(ie.Detail, "the workshop has") {
+		t.Errorf("header q050, 5%% or 50%%: %v, want no column named", err)
+	}
 	// Only empty rows: no rows.
 	if _, err := answersheet.Read(strings.NewReader("expert,question,q05,q50,q95\n,,,,\n"), g.qs, g.experts); !errors.As(err, &ie) || ie.Rule != answersheet.RuleEmpty {
 		t.Errorf("a sheet of empty rows: %v", err)

@@ -242,7 +242,11 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 		}
 		named = i + 1
 		if !known[h] {
-			return nil, rowErr(headerRow, shownCell(h), RuleHeader, "no question of this workshop has a column %s", shownCell(h))
+			detail := "no question of this workshop has a column " + shownCell(h)
+			if like := likeColumn(h, known); like != "" {
+				detail += "; the workshop has " + shownCell(like)
+			}
+			return nil, rowErr(headerRow, shownCell(h), RuleHeader, "%s", detail)
 		}
 		if _, dup := col[h]; dup {
 			return nil, rowErr(headerRow, shownCell(h), RuleHeader, "the column appears twice")
@@ -764,4 +768,35 @@ func CommentRows(body []byte, trimLeadingSpace bool) []CommentRow {
 			out = append(out, CommentRow{Line: line, Cells: rec})
 		}
 	}
+}
+
+// likeColumn is the workshop's quantile column that a header cell h
+// writes otherwise, "" if none: a one-digit percentage without its zero
+// ("q5" for q05), or a percent sign after it ("q5%", "q50%"). A header
+// of q5 was refused naming no column it might mean.
+func likeColumn(h string, known map[string]bool) string {
+	digits, ok := strings.CutPrefix(strings.TrimSuffix(h, "%"), "q")
+	if !ok || digits == "" {
+		return ""
+	}
+	for _, c := range digits {
+		if c < '0' || c > '9' {
+			return ""
+		}
+	}
+	if len(digits) > 2 {
+		return "" // q050 may be 5% or 50%
+	}
+	p, err := strconv.ParseFloat("0."+strings.Repeat("0", 2-len(digits))+digits, 64)
+	if err != nil {
+		return ""
+	}
+	for c := range known {
+		if d, ok := strings.CutPrefix(c, "q"); ok && d != "" {
+			if v, err := strconv.ParseFloat("0."+d, 64); err == nil && v == p && c != h {
+				return c
+			}
+		}
+	}
+	return ""
 }
