@@ -357,27 +357,40 @@ func (p Pool) Quantiles(probs []float64) ([]float64, error) {
 // the quantile function from the previous root, so most take one or two
 // CDF evaluations.
 func (p Pool) QuantileSet(probs []float64) ([]PoolQuantile, error) {
+	sets, err := p.unitQuantileSet(probs)
+	if err != nil {
+		return nil, err
+	}
+	out := make([]PoolQuantile, len(probs))
+	w := p.width()
+	for i, set := range sets {
+		out[i] = PoolQuantile{Prob: probs[i], Value: p.Lower + w*set.value, Unique: set.unique,
+			Low: p.Lower + w*set.low, High: p.Lower + w*set.high}
+	}
+	return out, nil
+}
+
+// unitQuantileSet is QuantileSet on the unit scale, [0, 1].
+func (p Pool) unitQuantileSet(probs []float64) ([]flatSet, error) {
 	if err := CheckProbs("probs", probs); err != nil {
 		return nil, err
 	}
 	if err := p.Validate(); err != nil {
 		return nil, err
 	}
-	out := make([]PoolQuantile, len(probs))
+	out := make([]flatSet, len(probs))
 	if len(probs) == 0 {
 		return out, nil
 	}
 	p = p.withIncBeta()
 	lo, hi, x0 := p.componentRange(probs[0])
-	w := p.width()
 	for i, pr := range probs {
 		if i > 0 {
 			hi = 1
 		}
 		u, f, df, d2f := p.quantileIn(pr, lo, hi, x0)
 		set := p.settle(pr, u, f)
-		out[i] = PoolQuantile{Prob: pr, Value: p.Lower + w*set.value, Unique: set.unique,
-			Low: p.Lower + w*set.low, High: p.Lower + w*set.high}
+		out[i] = set
 		lo, x0 = set.high, set.high
 		if !set.unique {
 			continue
@@ -617,8 +630,10 @@ type Representation struct {
 	// SSE is the least-squares objective Σ (F_B(Q(p)) − p)² over the
 	// grid, with F_B the Beta's CDF and Q the pool's quantile function.
 	SSE float64 `json:"sse"`
-	// MaxCDFError is maxₚ |F_B(Q(p)) − p| over the grid: how far, in
-	// probability, the Beta's CDF strays from the pool's.
+	// MaxCDFError is supₓ |F_B(x) − F(x)| over the whole support, F the
+	// pool's CDF (largestCDFGap): how far, in probability, the Beta's CDF
+	// strays from the pool's, between the grid's points and beyond them
+	// too.
 	MaxCDFError float64 `json:"max_cdf_error"`
 	// QuantileDiffs are Q_B(p) − Q(p) at p = 0.05, 0.5 and 0.95, on the
 	// quantity's scale: the same distance read as values.
@@ -658,8 +673,10 @@ const representationGrid = 99
 // weights: no fit is made (the grid cannot see a Beta whose quantiles
 // all round to a bound, such as Beta(1000, 1e-6), a point mass at 1 in
 // float64). Grid points whose pool quantile rounds to a bound are left
-// out of the fit but not out of the reported distance, which is taken
-// over the whole grid.
+// out of the fit; the reported distance is taken over the whole support,
+// not only at the grid (largestCDFGap), and where the pool's grid
+// quantiles lie beyond the last double before a bound, where no double
+// can compare the curves, the grid's distance at them is kept.
 func (p Pool) BestBeta() (Representation, error) {
 	probs := make([]float64, representationGrid)
 	for k := range probs {
@@ -675,13 +692,17 @@ func (p Pool) BestBeta() (Representation, error) {
 				SDRatio: 1, IntervalRatio: 1, Warnings: []string{}}, nil
 		}
 	}
-	qs, err := p.Quantiles(probs)
+	sets, err := p.unitQuantileSet(probs)
 	if err != nil {
 		return Representation{}, err
 	}
+	qs, units := make([]float64, len(sets)), make([]float64, len(sets))
+	for k, set := range sets {
+		qs[k], units[k] = p.Lower+p.width()*set.value, set.value
+	}
 	// A pool quantile that rounds to a bound (an extreme U or J shaped
-	// expert) cannot enter the fit, which needs interior points; it still
-	// counts in the reported distance.
+	// expert) cannot enter the fit, which needs interior points; the
+	// reported distance is over the whole support, beside the bounds too.
 	var u, up []float64
 	for k, q := range qs {
 		if x := (q - p.Lower) / p.width(); x > 0 && x < 1 {
@@ -699,10 +720,16 @@ func (p Pool) BestBeta() (Representation, error) {
 		Dist:  ScaledBeta{Beta: d, Lower: p.Lower, Upper: p.Upper},
 		Probs: probs,
 	}
+	r.MaxCDFError = p.withIncBeta().largestCDFGap(d, units, probs)
 	for k, q := range qs {
 		e := r.Dist.CDF(q) - probs[k]
 		r.SSE += e * e
-		r.MaxCDFError = math.Max(r.MaxCDFError, math.Abs(e))
+		// Beyond the last double before a bound the curves cannot be
+		// compared; a grid quantile held as the bound keeps the grid's
+		// distance there, which overstates rather than hides it.
+		if x := (q - p.Lower) / p.width(); !(x > 0 && x < 1) {
+			r.MaxCDFError = math.Max(r.MaxCDFError, math.Abs(e))
+		}
 	}
 	var bq [3]float64
 	for i, k := range [3]int{4, 49, 94} { // p = 0.05, 0.5, 0.95

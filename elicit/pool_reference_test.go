@@ -60,7 +60,8 @@ func readPoolBetaReference(t *testing.T) []poolBetaRow {
 // (the global minimum, as TestFitGlobalReference); the shapes within 1e-5
 // relative (the objective is flat to second order at its minimum, so the
 // shapes are settled to about the square root of its precision, and the
-// ratios with them); the largest CDF distance within 1e-6 in probability,
+// ratios with them); the largest CDF distance, SciPy's taken over the
+// whole of [0, 1] and refined at each peak, within 1e-6 in probability,
 // the quantile differences within 1e-7 of the width; the pool's own mean
 // and sd within 1e-12 and 1e-10 relative; the verdicts exactly (SciPy's
 // values lie at least 1e-3 from every limit). Measured: shapes within

@@ -278,8 +278,9 @@ func TestBestBetaReportsDistance(t *testing.T) {
 		sse += e * e
 		maxE = math.Max(maxE, math.Abs(e))
 	}
-	if math.Abs(sse-r.SSE) > 1e-12 || math.Abs(maxE-r.MaxCDFError) > 1e-12 {
-		t.Errorf("reported SSE %v max %v, recomputed %v %v", r.SSE, r.MaxCDFError, sse, maxE)
+	// The largest gap is over the whole curve, so never below the grid's.
+	if math.Abs(sse-r.SSE) > 1e-12 || !(r.MaxCDFError >= maxE-1e-12) {
+		t.Errorf("reported SSE %v max %v, recomputed %v, grid's largest gap %v", r.SSE, r.MaxCDFError, sse, maxE)
 	}
 	if maxE < 0.02 {
 		t.Errorf("a bimodal pool fitted within %v: implausible", maxE)
@@ -405,7 +406,7 @@ func TestPoolQuantileUnderflow(t *testing.T) {
 
 func TestBestBetaWithQuantilesOnBounds(t *testing.T) {
 	// A U-shaped expert (invented) puts grid quantiles within an ulp of
-	// 1; they leave the fit but stay in the reported distance.
+	// 1; they leave the fit but not the reported distance.
 	p := mustPool(t, unitBetas(0.01, 0.01, 3, 3), nil)
 	r, err := p.BestBeta()
 	if err != nil {
@@ -423,8 +424,10 @@ func TestBestBetaWithQuantilesOnBounds(t *testing.T) {
 	if onBound == 0 {
 		t.Fatal("test case has no grid quantile on a bound")
 	}
-	if math.Abs(maxE-r.MaxCDFError) > 1e-15 {
-		t.Errorf("max CDF error %v, recomputed over the whole grid %v", r.MaxCDFError, maxE)
+	// The distance is over the whole curve, beside the bounds too, so it
+	// is never below the grid's, bound points included.
+	if !(r.MaxCDFError >= maxE-1e-15) {
+		t.Errorf("max CDF error %v, below the whole grid's %v", r.MaxCDFError, maxE)
 	}
 }
 

@@ -2,7 +2,6 @@ package workshop
 
 import (
 	"errors"
-	"fmt"
 	"math"
 	"strings"
 	"testing"
@@ -99,7 +98,7 @@ func TestComparedPriorsSayWhereAPoolsBetaIsFarFromIt(t *testing.T) {
 		switch {
 		case p.Name == "Equal-weight pool":
 			c := caveats[i]
-			for _, want := range []string{"Equal-weight pool", "only roughly", fmt.Sprintf("%.3g", single.MaxCDFError), "not the pool's"} {
+			for _, want := range []string{"Equal-weight pool", "only roughly", elicit.GapText(single.MaxCDFError), "not the pool's"} {
 				if !strings.Contains(c, want) {
 					t.Errorf("caveat %q lacks %q", c, want)
 				}
