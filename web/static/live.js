@@ -121,6 +121,7 @@
           }
         });
         wait = failedWait;
+        notice(false);
         document.documentElement.setAttribute("data-live-updated", String(Date.now()));
         document.dispatchEvent(new CustomEvent("parley:live"));
       })
@@ -163,25 +164,64 @@
   // in ms, as in live-worker.js.
   var retryAfter = 5000;
 
-  // state notes the stream's state on the page. A stream refused (the
-  // session ended, too many streams) is said in words on a page whose
-  // status line says it follows changes, which it no longer does.
+  // state notes the stream's state on the page, in words on its status
+  // line (.live-status): the panel's and the overview's say they follow
+  // changes, the room view's says nothing while all is well. A stream
+  // refused (the session ended, too many streams, the server stopping)
+  // is said at once; one trying to reach the server again (the server
+  // restarted or down, the network dropped) once it has tried for
+  // staleAfter ms, so that a short break shows nothing. The projector
+  // stood silently stale: its room view had no status line.
+  var staleAfter = 10000;
+  var stale = null;
+  var since = null;
+  var current = "";
   function state(s) {
+    current = s;
     document.documentElement.setAttribute("data-live", s);
+    if (s === "connected") {
+      since = null;
+      if (stale) { window.clearTimeout(stale); stale = null; }
+    } else if (!since) {
+      since = new Date();
+    }
+    if (s === "reconnecting" && !stale) {
+      stale = window.setTimeout(function () {
+        stale = null;
+        if (current === "reconnecting") { notice(true); }
+      }, staleAfter);
+    }
+    notice(s === "stopped");
+  }
+
+  // notice shows the words that the page does not follow the workshop,
+  // or takes them away once the stream is back. They are put back after
+  // a fetch of the page that replaced the line holding them. A status
+  // line may carry its own words (data-live-stopped, where "{since}" is
+  // the time the stream went away).
+  var noticed = false;
+  function notice(show) {
+    if (show) {
+      noticed = true;
+    } else if (current === "connected") {
+      noticed = false;
+    }
     var note = document.getElementById("live-stopped");
-    if (s !== "stopped") {
+    var line = document.querySelector(".live-status");
+    if (!noticed) {
       if (note) { note.remove(); }
       return;
     }
-    var line = document.querySelector(".live-status[data-live-src]");
-    if (!note && line) {
-      note = document.createElement("strong");
-      note.id = "live-stopped";
-      note.setAttribute("role", "status");
-      note.textContent = " But not at the moment: the server refused this page its live changes (signed out, or too many live pages open). " +
-        "It asks again every few seconds; sign in again if you were signed out.";
-      line.appendChild(note);
-    }
+    if (note || !line) { return; }
+    var words = line.getAttribute("data-live-stopped") ||
+      " But not at the moment: the server refused this page its live changes (signed out, or too many live pages open), or cannot be reached. " +
+      "It asks again every few seconds; sign in again if you were signed out.";
+    var hhmm = ("0" + since.getHours()).slice(-2) + ":" + ("0" + since.getMinutes()).slice(-2);
+    note = document.createElement("strong");
+    note.id = "live-stopped";
+    note.setAttribute("role", "status");
+    note.textContent = words.replace("{since}", hhmm);
+    line.appendChild(note);
   }
 
   // heard is the workshop's count of changes as a stream tells it.
