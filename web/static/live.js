@@ -83,6 +83,37 @@
     }
   }
 
+  // placeOnScreen is the first part a change replaces that shows on the
+  // screen, and where it stands, for keepPlace. The browser keeps the
+  // reader's place over changes above it by an element on the screen,
+  // its scroll anchor; when that lies in a part that is replaced, the
+  // anchor goes with it and the page jumped (the question's panel, read
+  // at its revision history, as an expert's save added rows above it).
+  // Nothing above that part on the screen is replaced, so keeping it
+  // where it stood keeps what the browser's anchor would have kept.
+  function placeOnScreen() {
+    if (window.scrollY <= 0) { return null; }
+    var parts = document.querySelectorAll("[data-live]");
+    for (var i = 0; i < parts.length; i++) {
+      var r = parts[i].getBoundingClientRect();
+      if (parts[i].id && r.bottom > 0 && r.height > 0) {
+        return r.top < window.innerHeight ? { id: parts[i].id, top: r.top } : null;
+      }
+    }
+    return null;
+  }
+
+  // keepPlace scrolls so that the part placeOnScreen found stands where
+  // it stood before the parts were replaced.
+  function keepPlace(place) {
+    var el = place && document.getElementById(place.id);
+    if (!el) { return; }
+    var moved = el.getBoundingClientRect().top - place.top;
+    if (Math.abs(moved) >= 0.5) {
+      window.scrollBy(0, moved);
+    }
+  }
+
   // A fetch of the page that failed (the server busy or restarting, the
   // network dropped) or hung (a connection left dead by a laptop's sleep)
   // left the page as it was until the next change, and a hung one kept
@@ -112,6 +143,7 @@
         var doc = new DOMParser().parseFromString(html, "text/html");
         var marked = doc.querySelector("[data-live-src]");
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
+        var place = placeOnScreen();
         Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
           var fresh = el.id && doc.getElementById(el.id);
           if (fresh && atWork(el)) {
@@ -120,6 +152,7 @@
             replace(el, document.importNode(fresh, true));
           }
         });
+        keepPlace(place);
         wait = failedWait;
         notice(false);
         document.documentElement.setAttribute("data-live-updated", String(Date.now()));
