@@ -24,12 +24,17 @@
   var busy = false;
   var again = false;
 
-  // atWork says the facilitator is at work in a form inside el: the focus
-  // on one of its fields or buttons, or a field changed from what the
-  // page came with (words typed, then Tab to the button, or a click
-  // elsewhere). Such a part is left as it is; replacing it threw the
+  // atWork says the facilitator is at work in a form inside el: a refused
+  // form shown in it, the focus on one of its fields or buttons, or a
+  // field changed from what the page came with (words typed, then Tab to
+  // the button, or a click elsewhere). Such a part is left as it is; replacing it threw the
   // typed words away and dropped the focus to the top of the page.
   function atWork(el) {
+    // A refused form's message, and the words it kept, stay until the
+    // facilitator sends it again (the overview's Rounds card).
+    if (el.querySelector(".form-error, .field-error")) {
+      return true;
+    }
     var a = document.activeElement;
     if (a && a !== document.body && el.contains(a) &&
       (a.tagName === "INPUT" || a.tagName === "TEXTAREA" || a.tagName === "SELECT" || a.tagName === "BUTTON")) {
@@ -152,11 +157,13 @@
             replace(el, document.importNode(fresh, true));
           }
         });
-        keepPlace(place);
         wait = failedWait;
         notice(false);
         document.documentElement.setAttribute("data-live-updated", String(Date.now()));
+        // The pages' own scripts complete the new parts (page.js) before
+        // the place is kept, which counts their height.
         document.dispatchEvent(new CustomEvent("parley:live"));
+        keepPlace(place);
       })
       .catch(function () {
         again = true;

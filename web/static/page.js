@@ -40,9 +40,16 @@
 
 (function () {
   "use strict";
-  Array.prototype.forEach.call(document.querySelectorAll("textarea[data-max-chars]"), function (ta) {
+  // count gives each field with a limit, not yet counted, its count of
+  // characters left: at load, and in a part a live update put in (the
+  // overview's Rounds card lost its count, and 22 px, on each change).
+  function count() {
+    Array.prototype.forEach.call(document.querySelectorAll("textarea[data-max-chars]:not([data-counted])"), counted);
+  }
+  function counted(ta) {
     var max = parseInt(ta.getAttribute("data-max-chars"), 10);
     if (!max) { return; }
+    ta.setAttribute("data-counted", "");
     var note = document.createElement("span");
     note.className = "text-count";
     note.id = ta.id + "-count";
@@ -69,7 +76,9 @@
     }
     ta.addEventListener("input", show);
     show();
-  });
+  }
+  count();
+  document.addEventListener("parley:live", count);
 
   function nameOf(box) {
     var cap = box.querySelector("caption");
