@@ -197,29 +197,9 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 // value writes its numbers.
 func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo, hi float64, value func(float64) string) medianDrawing {
 	d := medianDrawing{Layout: lay.Name}
-	// Dots that would overlap are stacked in rows, lowest median first.
-	order := make([]int, len(v.Medians))
-	for i := range order {
-		order[i] = i
-	}
-	sortByValue(order, v.Medians)
 	w := lay.width()
 	f := frame{Left: stripSide, Width: w - 2*stripSide, X0: lo, X1: hi, Y0: 0, Y1: 1}
-	gap := 64.0 * w / wideLayout.width()
-	rowEnd := []float64{}
-	rows := make([]int, len(v.Medians))
-	for _, i := range order {
-		x := f.px(v.Medians[i])
-		r := 0
-		for r < len(rowEnd) && x-rowEnd[r] < gap {
-			r++
-		}
-		if r == len(rowEnd) {
-			rowEnd = append(rowEnd, math.Inf(-1))
-		}
-		rowEnd[r] = x
-		rows[i] = r
-	}
+	rows, rowCount := stripRows(lay, v.Labels, v.Medians, f.px)
 	// The box's legend follows the mark's on its line if it fits there,
 	// else it takes a line of its own.
 	noBox := len(v.Medians) < minBoxMedians
@@ -230,7 +210,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	if ownLine {
 		legendH += stripLegend
 	}
-	h := stripTop + float64(len(rowEnd))*stripRowH*1.6 + stripBottom + legendH
+	h := stripTop + float64(rowCount)*stripRowH*1.6 + stripBottom + legendH
 	axisY := h - stripBottom - legendH
 	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
 	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
@@ -280,4 +260,49 @@ func sortByValue(idx []int, vals []float64) {
 			idx[j], idx[j-1] = idx[j-1], idx[j]
 		}
 	}
+}
+
+// stripLabelPx is the largest size a layout's letters are set in
+// (chart.css: 17px on the wide strip, 15px on the compact one), and
+// stripLabelPad the room kept between two letters, or dots, of a row.
+func stripLabelPx(lay layout) float64 {
+	if lay.Name == wideLayout.Name {
+		return 17
+	}
+	return 15
+}
+
+const stripLabelPad = 5
+
+// stripRows stacks the dots that would overlap in rows, lowest median
+// first, each in the lowest row where it stands clear of the last dot
+// there: a dot takes the width of its letters (bold, at stripLabelPx),
+// or of the dot itself (12 units) if wider. Kept a fixed 64 units apart
+// (whatever the letters), a panel of 30 whose medians had converged
+// stacked 9 rows high and ran the room's side column off the screen.
+// It returns each dot's row and the number of rows.
+func stripRows(lay layout, labels []string, medians []float64, px func(float64) float64) ([]int, int) {
+	order := make([]int, len(medians))
+	for i := range order {
+		order[i] = i
+	}
+	sortByValue(order, medians)
+	half := func(i int) float64 {
+		return math.Max(12, labelEm(strings.TrimPrefix(labels[i], "Expert "), true)*stripLabelPx(lay)) / 2
+	}
+	var rowEnd []float64 // each row's right edge so far
+	rows := make([]int, len(medians))
+	for _, i := range order {
+		x := px(medians[i])
+		r := 0
+		for r < len(rowEnd) && x-half(i)-stripLabelPad < rowEnd[r] {
+			r++
+		}
+		if r == len(rowEnd) {
+			rowEnd = append(rowEnd, math.Inf(-1))
+		}
+		rowEnd[r] = x + half(i)
+		rows[i] = r
+	}
+	return rows, len(rowEnd)
 }
