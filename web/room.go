@@ -274,6 +274,9 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		t := *q.TrueValue
 		md.Truth = &t
 	}
+	if md.Rows() > roomTableRows {
+		md.NoTable = true
+	}
 	v.Medians = md
 	if len(fb.members) > overlayLimit {
 		var pc []chart.Curve
@@ -470,3 +473,17 @@ func frozenProgress(answered, active int, verb string, round int) string {
 	}
 	return closed + ", after " + strconv.Itoa(answered) + " of " + strconv.Itoa(active) + " " + plural(active, "expert", "experts") + " had " + verb + in + "."
 }
+
+// roomTableRows is the most rows of medians the room's strip stacks with
+// its table of the five numbers under it. At 1280×720 the side column
+// holds about 530 px: the count of reasons and its link, the heading,
+// a compact strip of four rows (about 330 px) and the table (five rows,
+// about 125 px). A taller strip (a large panel whose medians converged
+// stacked 9 rows, 563 px, and ran the legend, the table and the link to
+// the reasons off the projector) is shown without the table, which the
+// facilitator's page of the question keeps, and tableAway says so; the
+// strip then shrinks to what the column leaves (style.css).
+const roomTableRows = 4
+
+// tableAway is the line that stands for the table the room leaves out.
+const tableAway = "The quartiles are on the facilitator's page."

@@ -22,6 +22,24 @@ type MedianStripView struct {
 	Labels   []string  // one per median, in panel order
 	Medians  []float64 // the experts' medians
 	Truth    *float64  // the revealed true value, nil until revealed
+	// NoTable leaves out the table of the five numbers beside the strip
+	// (the room, under a strip too tall for both: the facilitator's page
+	// of the question keeps it).
+	NoTable bool
+}
+
+// Rows is how many rows the strip's medians are stacked in on its
+// compact drawing (the room's up to 1600 px, and the taller of the two).
+func (v MedianStripView) Rows() int {
+	m := newMedianStrip(v)
+	if m.Empty {
+		return 0
+	}
+	ys := map[string]bool{}
+	for _, p := range m.Drawings[len(m.Drawings)-1].Dots {
+		ys[p.Y] = true
+	}
+	return len(ys)
 }
 
 // value writes a median or the true value as the panel's table writes
@@ -78,6 +96,7 @@ type medianStripModel struct {
 	Drawings        []medianDrawing // wide, then compact
 	Empty           bool
 	Rows            []spreadQuartile
+	NoTable         bool
 }
 
 // minBoxMedians is the fewest medians whose quartiles the strip shows
@@ -105,7 +124,7 @@ const (
 func MedianStrip(v MedianStripView) templ.Component { return medianStripFigure(newMedianStrip(v)) }
 
 func newMedianStrip(v MedianStripView) medianStripModel {
-	m := medianStripModel{ID: v.ID}
+	m := medianStripModel{ID: v.ID, NoTable: v.NoTable}
 	sp, err := elicit.SpreadOfMedians(v.Medians)
 	if err != nil || len(v.Labels) != len(v.Medians) {
 		m.Empty = true

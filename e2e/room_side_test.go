@@ -1,0 +1,140 @@
+package e2e
+
+import (
+	"context"
+	"fmt"
+	"net/http"
+	"strconv"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web"
+)
+
+// convergedPanel is an invented panel of n experts after Delphi rounds:
+// most medians drawn together in a narrow band (several the same), a few
+// apart. Every expert gives a reason of a line. The round is closed.
+func convergedPanel(t *testing.T, s *site, n int) string {
+	t.Helper()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Invented: a converged panel", Invented: true,
+		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
+	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
+		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
+		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
+	if err := s.DB.AddQuestion(ctx, &q); err != nil {
+		t.Fatal(err)
+	}
+	for i := 0; i < n; i++ {
+		_, hash, err := web.NewExpertToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
+		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		// Invented: one in six stands apart (0.05 to 0.25); the rest
+		// converged on 0.10 to 0.13, in steps of 0.005, so that some
+		// give the same median.
+		m := 0.10 + 0.005*float64(i%7)
+		if i%6 == 5 {
+			m = 0.05 + 0.04*float64(i/6)
+		}
+		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
+			Reason: fmt.Sprintf("Invented: returns of a similar seal, site %d.", i+1)}
+		f, err := q.Fit(rv.Answer)
+		if err != nil {
+			t.Fatal(err)
+		}
+		rv.Kept = &f
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+}
+
+// sideShown is what the room's side column shows of what the room must
+// always see.
+type sideShown struct {
+	Link     bool         `json:"link"`     // the count of reasons and its link, or the reasons beside
+	LinkIn   bool         `json:"linkIn"`   // ... inside the side column's box and the screen
+	LegendIn bool         `json:"legendIn"` // the strip's legend inside them
+	Dots     int          `json:"dots"`     // the shown strip's medians
+	Labels   [][4]float64 `json:"labels"`   // their letters' boxes
+	Font     float64      `json:"font"`     // the letters' height on the screen, px
+}
+
+// TestRoomSideKeepsWhatTheRoomMustSee: panels of 4, 12 and 30 invented
+// experts whose medians converged (Delphi rounds draw them together). A
+// review found the 30 experts' median strip stacked 9 rows high (563
+// px): the side column held 769 px in 510–544 at 1366×768 and 729 in
+// 508 at 1280×720, and the projector showed no legend, no quartile
+// table and no link to the reasons. At 1280×720, 1366×768 and
+// 1920×1080 the side column now ends on the screen, the link to the
+// reasons (or the reasons beside) and the strip's legend are inside it,
+// and every expert's median is drawn, its letter apart from the others
+// and at least 12 px tall.
+func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
+	s := startSite(t)
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	for _, n := range []int{4, 12, 30} {
+		room := convergedPanel(t, s, n)
+		for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {
+			w, h := sz[0], sz[1]
+			phone := w < 600
+			screen := fmt.Sprintf("%d experts, %d×%d", n, w, h)
+			fac.viewport(w, h, phone)
+			if st := fac.open(room); st != http.StatusOK {
+				t.Fatalf("%s: room view: %d", screen, st)
+			}
+			shots.take(fac, fmt.Sprintf("room-side-%d-%d", n, w))
+			if phone {
+				fits(t, fac, screen, w)
+				continue
+			}
+			sideEnds(t, fac, screen)
+			fitsScreen(t, fac, int(w), int(h))
+			got := eval[sideShown](fac, "the side column", `(() => {
+				const side = document.querySelector(".room-side"), sb = side.getBoundingClientRect();
+				const foot = Math.min(sb.bottom, window.innerHeight);
+				const inside = e => { const r = e.getBoundingClientRect(); return r.height > 0 && r.top >= sb.top - 1 && r.bottom <= foot + 1; };
+				const link = side.querySelector(".room-reasons-more, .room-reasons");
+				const svg = Array.from(side.querySelectorAll("svg.chart-strip")).find(e => e.getBoundingClientRect().height > 0);
+				const labels = Array.from(svg.querySelectorAll(".median-label")).map(e => { const r = e.getBoundingClientRect(); return [r.left, r.top, r.right, r.bottom]; });
+				return {link: !!link, linkIn: !!link && inside(link), legendIn: inside(svg.querySelector(".strip-legend")),
+					dots: svg.querySelectorAll(".median-dot").length, labels: labels,
+					font: Math.min(...Array.from(svg.querySelectorAll(".median-label")).map(e => e.getBoundingClientRect().height))};
+			})()`)
+			if !got.Link || !got.LinkIn {
+				t.Errorf("%s: the reasons (or the link to them) are not on the screen in the side column", screen)
+			}
+			if !got.LegendIn {
+				t.Errorf("%s: the median strip's legend is not on the screen in the side column", screen)
+			}
+			if got.Dots != n || len(got.Labels) != n {
+				t.Errorf("%s: the strip draws %d medians and %d letters, want %d", screen, got.Dots, len(got.Labels), n)
+			}
+			if got.Font < 12 {
+				t.Errorf("%s: the strip's letters are %.1f px tall, too small for the back of a room", screen, got.Font)
+			}
+			for i, a := range got.Labels {
+				for _, b := range got.Labels[i+1:] {
+					if a[0] < b[2]-0.5 && b[0] < a[2]-0.5 && a[1] < b[3]-0.5 && b[1] < a[3]-0.5 {
+						t.Errorf("%s: two of the strip's letters overlap: %v and %v", screen, a, b)
+					}
+				}
+			}
+		}
+	}
+}
