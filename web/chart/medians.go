@@ -118,6 +118,14 @@ const (
 	stripTop    = 30.0
 	stripBottom = 40.0
 	stripLegend = 26.0 // the legend's line under the tick labels
+	// A strip of more than crowdedRows rows (a large panel whose medians
+	// converged) stacks them crowdedPitch apart, not 35.2: a letter (at
+	// most 15 units' capitals, its baseline 10 over its dot) then clears
+	// the dot of the row above by 2 units. The room shrinks a strip
+	// taller than its side column to fit, and 14 rows of a panel of 30
+	// wrote their letters there at 10.4 px on a 1280×720 projector.
+	crowdedRows  = 4
+	crowdedPitch = 29.0
 )
 
 // MedianStrip draws v.
@@ -229,7 +237,11 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 	if ownLine {
 		legendH += stripLegend
 	}
-	h := stripTop + float64(rowCount)*stripRowH*1.6 + stripBottom + legendH
+	pitch := stripRowH * 1.6
+	if rowCount > crowdedRows {
+		pitch = crowdedPitch
+	}
+	h := stripTop + float64(rowCount)*pitch + stripBottom + legendH
 	axisY := h - stripBottom - legendH
 	d.ViewBox = "0 0 " + coord(w) + " " + coord(h)
 	d.AxisY, d.AxisX1, d.AxisX2 = coord(axisY), coord(f.Left), coord(f.right())
@@ -255,7 +267,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		d.BoxLegendX, d.BoxLegendY = coord(boxX+22), coord(boxY)
 	}
 	for i, med := range v.Medians {
-		y := axisY - 12 - float64(rows[i])*stripRowH*1.6
+		y := axisY - 12 - float64(rows[i])*pitch
 		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
 			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: value(med)})
 	}

@@ -2,6 +2,7 @@ package chart
 
 import (
 	"math"
+	"sort"
 	"strconv"
 	"strings"
 	"testing"
@@ -64,5 +65,46 @@ func TestStripPacksItsDotsByTheirLetters(t *testing.T) {
 	}
 	if !strings.Contains(m.Desc, "Expert AD") {
 		t.Errorf("the caption leaves out the 30th expert: %q", m.Desc)
+	}
+}
+
+// TestCrowdedStripStacksItsRowsCloser: a strip of more than four rows
+// stacks them 29 units apart, not 35.2, so that the room, which shrinks
+// a strip taller than its side column, writes the letters of a converged
+// panel of 30 larger (they were 10.4 px at 1280×720). A letter still
+// clears the dot of the row above: its capitals (at most 15 px; DejaVu
+// Sans Bold's cap height taken as 0.73 em, from memory) stand on a
+// baseline 10 units over its own dot, and a dot's radius is 6.
+func TestCrowdedStripStacksItsRowsCloser(t *testing.T) {
+	labels, medians := convergedMedians()
+	m := newMedianStrip(MedianStripView{ID: "c", Quantity: "share", Lower: 0, Upper: 1, Labels: labels, Medians: medians})
+	for _, d := range m.Drawings {
+		var ys []float64
+		seen := map[string]bool{}
+		for _, p := range d.Dots {
+			if !seen[p.Y] {
+				seen[p.Y] = true
+				y, _ := strconv.ParseFloat(p.Y, 64)
+				ys = append(ys, y)
+			}
+		}
+		sort.Float64s(ys)
+		for i := 1; i < len(ys); i++ {
+			pitch := ys[i] - ys[i-1]
+			if pitch > 29.01 {
+				t.Errorf("%s: rows %.1f units apart, want 29", d.Layout, pitch)
+			}
+			if clear := pitch - 6 - 10 - 0.73*15; clear < 1.5 {
+				t.Errorf("%s: rows %.1f units apart: a letter clears the dot above by %.1f", d.Layout, pitch, clear)
+			}
+		}
+	}
+	// A strip of a few rows keeps its pitch.
+	few := newMedianStrip(MedianStripView{ID: "f", Quantity: "share", Lower: 0, Upper: 1,
+		Labels: []string{"Expert A", "Expert B"}, Medians: []float64{0.2, 0.2}})
+	a, _ := strconv.ParseFloat(few.Drawings[0].Dots[0].Y, 64)
+	b, _ := strconv.ParseFloat(few.Drawings[0].Dots[1].Y, 64)
+	if math.Abs(math.Abs(a-b)-35.2) > 0.01 {
+		t.Errorf("two rows %.1f units apart, want 35.2 as before", math.Abs(a-b))
 	}
 }
