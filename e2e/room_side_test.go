@@ -70,6 +70,8 @@ type sideShown struct {
 	Dots     int          `json:"dots"`     // the shown strip's medians
 	Labels   [][4]float64 `json:"labels"`   // their letters' boxes
 	Font     float64      `json:"font"`     // the letters' size on the screen, px
+	Table    bool         `json:"table"`    // the table of the medians' quartiles is shown
+	Away     bool         `json:"away"`     // the line saying where the table is is shown
 }
 
 // TestRoomSideKeepsWhatTheRoomMustSee: panels of 4, 12 and 30 invented
@@ -113,12 +115,19 @@ func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
 				const link = side.querySelector(".room-reasons-more, .room-reasons");
 				const svg = Array.from(side.querySelectorAll("svg.chart-strip")).find(e => e.getBoundingClientRect().height > 0);
 				const labels = Array.from(svg.querySelectorAll(".median-label")).map(e => { const r = e.getBoundingClientRect(); return [r.left, r.top, r.right, r.bottom]; });
-				return {link: !!link, linkIn: !!link && inside(link), legendIn: inside(svg.querySelector(".strip-legend")),
+				const shown = sel => { const e = side.querySelector(sel); return !!e && e.getBoundingClientRect().height > 0; };
+				return {table: shown(".chart-table"), away: shown(".room-table-away"), link: !!link, linkIn: !!link && inside(link), legendIn: inside(svg.querySelector(".strip-legend")),
 					dots: svg.querySelectorAll(".median-dot").length, labels: labels,
 					font: Math.min(...Array.from(svg.querySelectorAll(".median-label")).map(e => parseFloat(getComputedStyle(e).fontSize) * svg.getScreenCTM().a))};
 			})()`)
 			if !got.Link || !got.LinkIn {
 				t.Errorf("%s: the reasons (or the link to them) are not on the screen in the side column", screen)
+			}
+			// The table is left out, with a line saying where it is, only
+			// where the compact strip is drawn (up to 1600 px) and stacks
+			// many rows: the 30 at 1280 and 1366 px.
+			if crowded := n == 30 && w <= 1600; got.Table == crowded || got.Away != crowded {
+				t.Errorf("%s: the table of quartiles shown %v, the line saying where it is %v; want the table %v", screen, got.Table, got.Away, !crowded)
 			}
 			if !got.LegendIn {
 				t.Errorf("%s: the median strip's legend is not on the screen in the side column", screen)

@@ -36,7 +36,11 @@ type roomView struct {
 	Panel    *chart.PanelView
 	Spread   *chart.SpreadView
 	Medians  *chart.MedianStripView
-	Reasons  []feedbackReason
+	// Crowded: the strip's compact drawing stacks more than
+	// roomTableRows rows, and the side column leaves out its table where
+	// it draws that drawing (roomTableRows).
+	Crowded bool
+	Reasons []feedbackReason
 	// ChartNotes are the picture's notes, shown under it in the room's
 	// own type instead of the picture's small print.
 	ChartNotes []string
@@ -274,9 +278,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		t := *q.TrueValue
 		md.Truth = &t
 	}
-	if md.Rows() > roomTableRows {
-		md.NoTable = true
-	}
+	v.Crowded = md.Rows() > roomTableRows
 	v.Medians = md
 	if len(fb.members) > overlayLimit {
 		var pc []chart.Curve
@@ -480,9 +482,11 @@ func frozenProgress(answered, active int, verb string, round int) string {
 // a compact strip of four rows (about 330 px) and the table (five rows,
 // about 125 px). A taller strip (a large panel whose medians converged
 // stacked 9 rows, 563 px, and ran the legend, the table and the link to
-// the reasons off the projector) is shown without the table, which the
-// facilitator's page of the question keeps, and tableAway says so; the
-// strip then shrinks to what the column leaves (style.css).
+// the reasons off the projector) is shown there without the table, which
+// the facilitator's page of the question keeps, and tableAway says so;
+// the strip then shrinks to what the column leaves (style.css). Wider
+// than 1600 px the side draws the wide strip, far fewer rows in a taller
+// column, and keeps the table.
 const roomTableRows = 4
 
 // tableAway is the line that stands for the table the room leaves out.

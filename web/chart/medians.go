@@ -22,10 +22,6 @@ type MedianStripView struct {
 	Labels   []string  // one per median, in panel order
 	Medians  []float64 // the experts' medians
 	Truth    *float64  // the revealed true value, nil until revealed
-	// NoTable leaves out the table of the five numbers beside the strip
-	// (the room, under a strip too tall for both: the facilitator's page
-	// of the question keeps it).
-	NoTable bool
 }
 
 // Rows is how many rows the strip's medians are stacked in on its
@@ -96,7 +92,6 @@ type medianStripModel struct {
 	Drawings        []medianDrawing // wide, then compact
 	Empty           bool
 	Rows            []spreadQuartile
-	NoTable         bool
 }
 
 // minBoxMedians is the fewest medians whose quartiles the strip shows
@@ -132,7 +127,7 @@ const (
 func MedianStrip(v MedianStripView) templ.Component { return medianStripFigure(newMedianStrip(v)) }
 
 func newMedianStrip(v MedianStripView) medianStripModel {
-	m := medianStripModel{ID: v.ID, NoTable: v.NoTable}
+	m := medianStripModel{ID: v.ID}
 	sp, err := elicit.SpreadOfMedians(v.Medians)
 	if err != nil || len(v.Labels) != len(v.Medians) {
 		m.Empty = true
