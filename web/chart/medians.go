@@ -113,10 +113,12 @@ const (
 	stripTop    = 30.0
 	stripBottom = 40.0
 	stripLegend = 26.0 // the legend's line under the tick labels
-	// A strip of more than crowdedRows rows (a large panel whose medians
-	// converged) stacks them crowdedPitch apart, not 35.2: a letter (at
-	// most 15 units' capitals, its baseline 10 over its dot) then clears
-	// the dot of the row above by 2 units. The room shrinks a strip
+	// A compact strip of more than crowdedRows rows (a large panel whose
+	// medians converged) stacks them crowdedPitch apart, not 35.2: a
+	// letter (at most 15 units' capitals, its baseline 10 over its dot)
+	// then clears the dot of the row above by 2 units. The wide strip's
+	// letters are 17 units, which would touch the dot above; it is drawn
+	// in a column with room for its rows (above 1600 px) and keeps 35.2. The room shrinks a strip
 	// taller than its side column to fit, and 14 rows of a panel of 30
 	// wrote their letters there at 10.4 px on a 1280×720 projector.
 	crowdedRows  = 4
@@ -233,7 +235,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		legendH += stripLegend
 	}
 	pitch := stripRowH * 1.6
-	if rowCount > crowdedRows {
+	if rowCount > crowdedRows && lay.Name == compactLayout.Name {
 		pitch = crowdedPitch
 	}
 	h := stripTop + float64(rowCount)*pitch + stripBottom + legendH
