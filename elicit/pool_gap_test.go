@@ -2,7 +2,6 @@ package elicit
 
 import (
 	"math"
-	"strconv"
 	"testing"
 )
 
@@ -31,21 +30,8 @@ func TestLargestCDFGapAgainstSciPy(t *testing.T) {
 	}
 	var missedByGrid, astride int
 	for _, c := range rows {
-		num := func(i int) float64 {
-			v, err := strconv.ParseFloat(c[i], 64)
-			if err != nil {
-				t.Fatalf("%s: column %d: %v", c[0], i, err)
-			}
-			return v
-		}
-		ds, ws := parseComponents(t, c[3])
-		for i := range ds {
-			ds[i].Lower, ds[i].Upper = num(1), num(2)
-		}
-		p, err := LinearPool(ds, ws)
-		if err != nil {
-			t.Fatalf("%s: %v", c[0], err)
-		}
+		num := func(i int) float64 { return referenceCell(t, c, i) }
+		p := referencePool(t, c)
 		sup, grid, farCDF := num(7), num(6), c[8] == "1"
 		if sup-grid > 1e-6 {
 			missedByGrid++

@@ -22,21 +22,8 @@ func readPoolBetaReference(t *testing.T) []poolBetaRow {
 	t.Helper()
 	var rows []poolBetaRow
 	for _, c := range referenceTable(t, "../testdata/scipy/pool_beta_reference.csv", "# scipy", 18) {
-		num := func(i int) float64 {
-			v, err := strconv.ParseFloat(c[i], 64)
-			if err != nil {
-				t.Fatalf("%s: column %d: %v", c[0], i, err)
-			}
-			return v
-		}
-		ds, ws := parseComponents(t, c[3])
-		for i := range ds {
-			ds[i].Lower, ds[i].Upper = num(1), num(2)
-		}
-		p, err := LinearPool(ds, ws)
-		if err != nil {
-			t.Fatalf("%s: %v", c[0], err)
-		}
+		num := func(i int) float64 { return referenceCell(t, c, i) }
+		p := referencePool(t, c)
 		rows = append(rows, poolBetaRow{
 			name: c[0], pool: p,
 			alpha: num(4), beta: num(5), sse: num(6), maxErr: num(7),
@@ -170,4 +157,30 @@ func TestLogPoolAgainstSciPy(t *testing.T) {
 	if len(pools) < 8 || n < 100 {
 		t.Fatalf("%d pools, %d values in the reference table", len(pools), n)
 	}
+}
+
+// referenceCell is column i of a reference table's row c as a number.
+func referenceCell(t *testing.T, c []string, i int) float64 {
+	t.Helper()
+	v, err := strconv.ParseFloat(c[i], 64)
+	if err != nil {
+		t.Fatalf("%s: column %d: %v", c[0], i, err)
+	}
+	return v
+}
+
+// referencePool is the linear pool of a reference table's row c: its
+// bounds in columns 1 and 2, its components in column 3 (the layout of
+// pool_beta_reference.csv and pool_gap_reference.csv).
+func referencePool(t *testing.T, c []string) Pool {
+	t.Helper()
+	ds, ws := parseComponents(t, c[3])
+	for i := range ds {
+		ds[i].Lower, ds[i].Upper = referenceCell(t, c, 1), referenceCell(t, c, 2)
+	}
+	p, err := LinearPool(ds, ws)
+	if err != nil {
+		t.Fatalf("%s: %v", c[0], err)
+	}
+	return p
 }

@@ -9,6 +9,8 @@ import (
 	"strconv"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 var (
@@ -92,18 +94,8 @@ func TestCorrectedEntryKeepsTheExpertsReasoning(t *testing.T) {
 // into a correction, which would show it again; the page says why the
 // box is empty.
 func TestCorrectedEntryLeavesAWithheldReasoningOut(t *testing.T) {
-	h := newHarness(t)
-	h.signIn()
 	ctx := context.Background()
-	ws := h.newWorkshop("Culvert survey (invented)")
-	q := h.addQuantileQuestion(t, ws.ID, "What share of culverts are blocked?", "blocked culvert share")
-	ada, _ := h.addExpert(ws, "Ada Quell")
-	page := entryPath(ws.ID, q.ID, ada.ID)
-	form := url.Values{"channel": {"phone"}, "unit": {"proportion"}, "values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"},
-		"reason": {"Names the contractor at fault (invented)."}}
-	if r, body := h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
-		t.Fatalf("entry: %d %s", r.StatusCode, body)
-	}
+	h, _, q, ada, page := culvertEntry(t, "Names the contractor at fault (invented).")
 	own, _ := h.db.QuestionExpertRevisions(ctx, q.ID, ada.ID)
 	if err := h.db.SetReasonWithheld(ctx, own[0].ID, true, "It names a firm (invented)."); err != nil {
 		t.Fatal(err)
@@ -121,17 +113,7 @@ func TestCorrectedEntryLeavesAWithheldReasoningOut(t *testing.T) {
 // reasoning and does not say it is "saved again with this entry"; once
 // the round is reopened it carries it again.
 func TestClosedRoundEntryCarriesNoReasoning(t *testing.T) {
-	h := newHarness(t)
-	h.signIn()
-	ws := h.newWorkshop("Culvert survey (invented)")
-	q := h.addQuantileQuestion(t, ws.ID, "What share of culverts are blocked?", "blocked culvert share")
-	ada, _ := h.addExpert(ws, "Ada Quell")
-	page := entryPath(ws.ID, q.ID, ada.ID)
-	form := url.Values{"channel": {"phone"}, "unit": {"proportion"}, "values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"},
-		"reason": {"Silt after the spring floods (invented)."}}
-	if r, body := h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
-		t.Fatalf("entry: %d %s", r.StatusCode, body)
-	}
+	h, ws, _, _, page := culvertEntry(t, "Silt after the spring floods (invented).")
 	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("close: %d %s", r.StatusCode, body)
 	}
@@ -144,4 +126,23 @@ func TestClosedRoundEntryCarriesNoReasoning(t *testing.T) {
 	if _, body := h.get(page); !strings.Contains(body, "saved again with this entry") {
 		t.Error("in the reopened round the entry page does not carry the reasoning")
 	}
+}
+
+// culvertEntry is an invented workshop with one question and one expert,
+// Ada Quell, whose answer the facilitator has entered by phone with the
+// reasoning given; page is the entry page.
+func culvertEntry(t *testing.T, reason string) (h *harness, ws workshop.Workshop, q workshop.Question, ada workshop.Expert, page string) {
+	t.Helper()
+	h = newHarness(t)
+	h.signIn()
+	ws = h.newWorkshop("Culvert survey (invented)")
+	q = h.addQuantileQuestion(t, ws.ID, "What share of culverts are blocked?", "blocked culvert share")
+	ada, _ = h.addExpert(ws, "Ada Quell")
+	page = entryPath(ws.ID, q.ID, ada.ID)
+	form := url.Values{"channel": {"phone"}, "unit": {"proportion"}, "values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.12"},
+		"reason": {reason}}
+	if r, body := h.post(page+"/save", form); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("entry: %d %s", r.StatusCode, body)
+	}
+	return h, ws, q, ada, page
 }
