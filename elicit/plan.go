@@ -1,6 +1,7 @@
 package elicit
 
 import (
+	"errors"
 	"math"
 	"strconv"
 	"strings"
@@ -102,9 +103,34 @@ type AssuranceResult struct {
 // with x and the successful outcomes are x = 0…x* (below) or x*…n
 // (above): x* is found by bisection over x, and the sum runs over those
 // outcomes (predictiveSum). It needs a valid prior and
-// 0 ≤ n ≤ MaxPredictiveTrials.
+// 0 ≤ n ≤ MaxPredictiveTrials. It is AssuranceUnder with one prior in
+// both roles.
 func Assurance(prior Beta, n int, goal SuccessCriterion) (AssuranceResult, error) {
-	if err := prior.Validate(); err != nil {
+	return AssuranceUnder(prior, prior, n, goal)
+}
+
+// AssuranceUnder is the assurance of a study planned with two priors
+// (O'Hagan & Stevens 2001, "Bayesian assessment of sample size for
+// clinical trials of cost-effectiveness", Med. Decis. Making 21(3); the
+// "sampling" and "fitting" priors of Wang & Gelfand 2002, Statist. Sci.
+// 17(2)): the design prior says how likely each outcome is, and the
+// analysis prior is the one the study's own analysis will use, on whose
+// posterior success is judged:
+//
+//	assurance = Σₓ P_design(X = x) · 1[P_analysis(θ < T | x) ≥ G]
+//
+// The usual case is an elicited design prior with a uniform or sceptical
+// analysis prior, where those who judge the study ask that the panel's
+// judgement not enter its conclusion: the elicited prior then says how
+// likely the study is to convince them. The posterior under the analysis
+// prior still rises with x, so the successful outcomes are again one run
+// x = 0…x* or x*…n, found by bisection on the analysis posterior; the sum
+// is over the design prior's predictive. Both priors must be valid.
+func AssuranceUnder(design, analysis Beta, n int, goal SuccessCriterion) (AssuranceResult, error) {
+	if err := design.Validate(); err != nil {
+		return AssuranceResult{}, err
+	}
+	if err := analysisPrior(analysis); err != nil {
 		return AssuranceResult{}, err
 	}
 	if err := goal.Validate(); err != nil {
@@ -113,15 +139,29 @@ func Assurance(prior Beta, n int, goal SuccessCriterion) (AssuranceResult, error
 	if err := checkPlanTrials(n, 0, MaxPredictiveTrials); err != nil {
 		return AssuranceResult{}, err
 	}
-	return assurance(prior, n, goal), nil
+	return assurance(design, analysis, n, goal), nil
 }
 
-// assurance is Assurance for valid input.
-func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
+// analysisPrior checks an analysis prior, naming its fields
+// analysis_alpha and analysis_beta so that a message tells it from the
+// design prior's.
+func analysisPrior(b Beta) error {
+	var ie *InputError
+	if err := b.Validate(); errors.As(err, &ie) {
+		return &InputError{Field: "analysis_" + ie.Field, Rule: ie.Rule, Detail: ie.Detail}
+	} else if err != nil {
+		return err
+	}
+	return nil
+}
+
+// assurance is AssuranceUnder for valid input.
+func assurance(design, analysis Beta, n int, goal SuccessCriterion) AssuranceResult {
 	below := goal.Direction == DirectionBelow
-	// succeeds(x): the posterior after x successes meets the criterion.
+	// succeeds(x): the analysis posterior after x successes meets the
+	// criterion.
 	succeeds := func(x int) bool {
-		p := newPosterior(prior.Alpha+float64(x), prior.Beta+float64(n-x))
+		p := newPosterior(analysis.Alpha+float64(x), analysis.Beta+float64(n-x))
 		if below {
 			return p.cdf(goal.Threshold) >= goal.Confidence
 		}
@@ -145,7 +185,7 @@ func assurance(prior Beta, n int, goal SuccessCriterion) AssuranceResult {
 	if !below {
 		r.SuccessFrom, r.SuccessTo = hi, n
 	}
-	r.Assurance = predictiveSum(prior, n, r.SuccessFrom, r.SuccessTo)
+	r.Assurance = predictiveSum(design, n, r.SuccessFrom, r.SuccessTo)
 	return r
 }
 
@@ -314,7 +354,16 @@ func (t predictiveTerms) tail(x, step int, rel float64) float64 {
 // the set of successful outcomes moves in whole steps, so the curve has
 // teeth (see TestAssuranceCurveTeeth).
 func AssuranceCurve(prior Beta, goal SuccessCriterion, ns []int) ([]AssuranceResult, error) {
-	if err := prior.Validate(); err != nil {
+	return AssuranceCurveUnder(prior, prior, goal, ns)
+}
+
+// AssuranceCurveUnder is AssuranceCurve with a design and an analysis
+// prior, each point as AssuranceUnder.
+func AssuranceCurveUnder(design, analysis Beta, goal SuccessCriterion, ns []int) ([]AssuranceResult, error) {
+	if err := design.Validate(); err != nil {
+		return nil, err
+	}
+	if err := analysisPrior(analysis); err != nil {
 		return nil, err
 	}
 	if err := goal.Validate(); err != nil {
@@ -325,7 +374,7 @@ func AssuranceCurve(prior Beta, goal SuccessCriterion, ns []int) ([]AssuranceRes
 		if err := checkPlanTrials(n, 0, MaxPredictiveTrials); err != nil {
 			return nil, err
 		}
-		out[i] = assurance(prior, n, goal)
+		out[i] = assurance(design, analysis, n, goal)
 	}
 	return out, nil
 }

@@ -137,12 +137,17 @@ type planView struct {
 	PredQ            [3]int
 	PredPic          chart.PredictiveView
 	Goal             *elicit.SuccessCriterion
-	Assure           *elicit.AssuranceResult
-	Curve            []elicit.AssuranceResult
-	CurvePic         chart.AssuranceView
-	Size             *elicit.SampleSizeGoal
-	SizeRes          *elicit.SampleSizeResult
-	SizeAt           *elicit.CriterionResult // the criterion at the planned trials
+	// Analysis is the prior the study's own analysis will use, on whose
+	// posterior success is judged (elicit.AssuranceUnder); its Value is
+	// "" when it is the prior planned under (Chosen), which then plays
+	// both parts.
+	Analysis priorChoice
+	Assure   *elicit.AssuranceResult
+	Curve    []elicit.AssuranceResult
+	CurvePic chart.AssuranceView
+	Size     *elicit.SampleSizeGoal
+	SizeRes  *elicit.SampleSizeResult
+	SizeAt   *elicit.CriterionResult // the criterion at the planned trials
 }
 
 // sensitivityBlock is the posterior under each compared prior for one
@@ -453,6 +458,20 @@ func planStudy(ctx context.Context, p planView) planView {
 			p.Chosen = c
 		}
 	}
+	// The analysis prior: the one planned under unless another is asked
+	// for, the uniform or any prior the study could be planned under.
+	analyses := analysisChoices(p.Choices)
+	names := []string{""}
+	for _, c := range analyses {
+		names = append(names, c.Value)
+	}
+	analysis := f.Choice("analysis", "", names...)
+	for _, c := range analyses {
+		// The prior planned under, chosen again, plays both parts.
+		if c.Value == analysis && c.Value != p.Chosen.Value {
+			p.Analysis = c
+		}
+	}
 	p.Trials = f.Int("trials", 1, elicit.MaxPredictiveTrials)
 	if f.Value("threshold") != "" || f.Value("confidence") != "" {
 		// One of the pair alone: say what it is required with, since
@@ -523,12 +542,16 @@ func planStudy(ctx context.Context, p planView) planView {
 	p.PredQ = [3]int{elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95)}
 	p.PredPic = chart.PredictiveView{ID: "predictive", Trials: p.Trials, PMF: pmf, FollowUp: p.Chosen.AfterData}
 	if p.Goal != nil {
-		a, err := elicit.Assurance(prior, p.Trials, *p.Goal)
+		judged := prior
+		if p.Analysis.Value != "" {
+			judged = p.Analysis.Prior
+		}
+		a, err := elicit.AssuranceUnder(prior, judged, p.Trials, *p.Goal)
 		if err != nil {
 			f.Fail(err, nil)
 			return p
 		}
-		curve, err := elicit.AssuranceCurve(prior, *p.Goal, elicit.PlanGrid(p.Trials, planCurvePoints))
+		curve, err := elicit.AssuranceCurveUnder(prior, judged, *p.Goal, elicit.PlanGrid(p.Trials, planCurvePoints))
 		if err != nil {
 			f.Fail(err, nil)
 			return p
@@ -565,6 +588,38 @@ func planStudy(ctx context.Context, p planView) planView {
 	}
 	p.Ran = true
 	return p
+}
+
+// uniformAnalysis is the analysis prior that carries no judgement, the
+// usual choice where those who judge the study ask that the panel's
+// judgement not enter its conclusion.
+var uniformAnalysis = priorChoice{Value: "uniform", Label: "Uniform", InSentence: "the uniform prior (no judgement)", Prior: elicit.Uniform()}
+
+// analysisChoices are the priors success can be judged under: the uniform
+// first, then every prior the study can be planned under. An analysis
+// prior is the study's own, so a choice that is itself the uniform stands
+// once, as that choice.
+func analysisChoices(plan []priorChoice) []priorChoice {
+	out := []priorChoice{uniformAnalysis}
+	for _, c := range plan {
+		if c.Prior == elicit.Uniform() {
+			out[0] = c
+			continue
+		}
+		out = append(out, c)
+	}
+	return out
+}
+
+// judgedWords, after the success criterion's words, name the analysis
+// prior its posterior is taken under, and where the outcomes' chances come
+// from; "" when one prior plays both parts.
+func judgedWords(p planView) string {
+	if p.Analysis.Value == "" {
+		return ""
+	}
+	return ", the posterior taken under " + p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
+		", the prior the study's analysis will use; each outcome's chance comes from " + p.Chosen.InSentence
 }
 
 // recordData adds one batch of observed data to the question's agreed

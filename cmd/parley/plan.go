@@ -14,7 +14,7 @@ import (
 )
 
 func init() {
-	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence], [--length, --level, --criterion, --interval, --woc-trim, --exhaustive], --format)", runPlan)
+	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence, [--analysis-alpha, --analysis-beta]], [--length, --level, --criterion, --interval, --woc-trim, --exhaustive], --format)", runPlan)
 }
 
 // curvePoints is how many numbers of trials the assurance curve has.
@@ -40,13 +40,23 @@ type planOutput struct {
 	PredictiveSD          float64       `json:"predictive_sd"`
 	PredictivePercentiles planQuantiles `json:"predictive_percentiles"`
 	// Assurance, with Success, when --threshold is given.
-	Assurance      *float64             `json:"assurance,omitempty"`
+	Assurance *float64 `json:"assurance,omitempty"`
+	// AnalysisPrior, when --analysis-alpha and --analysis-beta are given,
+	// is the prior the study's analysis will use: success is judged on
+	// its posterior, while the outcomes are drawn from the prior above
+	// (the design prior).
+	AnalysisPrior  *planPrior           `json:"analysis_prior,omitempty"`
 	Success        *planSuccess         `json:"success,omitempty"`
 	AssuranceCurve []planAssurancePoint `json:"assurance_curve,omitempty"`
 	// SampleSize when --length is given.
 	SampleSize *planSampleSize `json:"sample_size,omitempty"`
 	Warnings   []string        `json:"warnings"`
 	Caution    string          `json:"caution"`
+}
+
+type planPrior struct {
+	Alpha float64 `json:"alpha"`
+	Beta  float64 `json:"beta"`
 }
 
 type planQuantiles struct {
@@ -100,6 +110,7 @@ type planSampleSize struct {
 type planArgs struct {
 	alpha, beta, trials                string
 	threshold, direction, confidence   string
+	analysisAlpha, analysisBeta        string
 	length, level, criterion, interval string
 	trim, format                       string
 	exhaustive                         bool
@@ -115,6 +126,8 @@ func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1 (0.08, or 8%)")
 	fs.StringVar(&a.direction, "direction", "", "assurance: below (success when P(θ < T | data) ≥ G) or above (P(θ > T | data) ≥ G)")
 	fs.StringVar(&a.confidence, "confidence", "", "assurance: the posterior probability G the criterion asks for, strictly between 0 and 1 (0.95, or 95%)")
+	fs.StringVar(&a.analysisAlpha, "analysis-alpha", "", "assurance: alpha of the analysis prior, on whose posterior success is judged (with --analysis-beta; without them, the prior above)")
+	fs.StringVar(&a.analysisBeta, "analysis-beta", "", "assurance: beta of the analysis prior (with --analysis-alpha)")
 	fs.StringVar(&a.length, "length", "", "sample size: the interval length l, strictly between 0 and 1 (0.04, or 4%)")
 	fs.StringVar(&a.level, "level", "0.95", "sample size: the coverage of the credible intervals (0.95, or 95%)")
 	fs.StringVar(&a.criterion, "criterion", "alc", "sample size: alc (average length), acc (average coverage) or woc (worst outcome)")
@@ -160,6 +173,16 @@ func checkPlanGroups(a planArgs) error {
 			}
 			break
 		}
+	}
+	// The analysis prior comes whole, and only with a success criterion,
+	// the one thing it is used for.
+	for _, pair := range [][2]string{{"analysis-alpha", "analysis-beta"}, {"analysis-beta", "analysis-alpha"}} {
+		if a.set[pair[0]] && !a.set[pair[1]] {
+			return badInput(pair[1], "is required with --%s", pair[0])
+		}
+	}
+	if a.set["analysis-alpha"] && !a.set["threshold"] {
+		return badInput("analysis-alpha", "applies to the assurance: give --threshold, --direction and --confidence too")
 	}
 	var given []string
 	for _, f := range []string{"level", "criterion", "interval", "woc-trim", "exhaustive"} {
@@ -213,6 +236,15 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 		}
 		goal = &g
 	}
+	analysis := prior
+	if a.set["analysis-alpha"] {
+		if analysis.Alpha, err = number("analysis-alpha", a.analysisAlpha); err != nil {
+			return planOutput{}, err
+		}
+		if analysis.Beta, err = number("analysis-beta", a.analysisBeta); err != nil {
+			return planOutput{}, err
+		}
+	}
 	var size *elicit.SampleSizeGoal
 	if a.set["length"] {
 		g := elicit.SampleSizeGoal{Criterion: elicit.Criterion(a.criterion), Interval: elicit.IntervalKind(a.interval)}
@@ -226,7 +258,7 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 			return planOutput{}, err
 		}
 		if err := g.Validate(); err != nil {
-			return planOutput{}, wocTrimFlag(err)
+			return planOutput{}, flagNames(err)
 		}
 		size = &g
 	}
@@ -249,14 +281,17 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	}
 	nums := append([]float64{out.PriorMean, out.PriorSD, out.DataShare, out.PredictiveMean, out.PredictiveSD}, pmf...)
 	if goal != nil {
-		r, err := elicit.Assurance(prior, n, *goal)
+		r, err := elicit.AssuranceUnder(prior, analysis, n, *goal)
 		if err != nil {
-			return planOutput{}, err
+			return planOutput{}, flagNames(err)
+		}
+		if a.set["analysis-alpha"] {
+			out.AnalysisPrior = &planPrior{analysis.Alpha, analysis.Beta}
 		}
 		out.Assurance = &r.Assurance
 		out.Success = &planSuccess{Threshold: goal.Threshold, Direction: string(goal.Direction), Confidence: goal.Confidence,
 			SuccessesFrom: r.SuccessFrom, SuccessesTo: r.SuccessTo}
-		curve, err := elicit.AssuranceCurve(prior, *goal, elicit.PlanGrid(n, curvePoints))
+		curve, err := elicit.AssuranceCurveUnder(prior, analysis, *goal, elicit.PlanGrid(n, curvePoints))
 		if err != nil {
 			return planOutput{}, err
 		}
@@ -309,11 +344,15 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 	return out, nil
 }
 
-// wocTrimFlag names elicit's field "trim" by its flag, --woc-trim.
-func wocTrimFlag(err error) error {
+// flagNames names elicit's fields by their flags: "trim" is --woc-trim,
+// "analysis_alpha" --analysis-alpha and "analysis_beta" --analysis-beta.
+func flagNames(err error) error {
 	var ie *elicit.InputError
-	if errors.As(err, &ie) && ie.Field == "trim" {
-		return &elicit.InputError{Field: "woc-trim", Rule: ie.Rule, Detail: ie.Detail}
+	if !errors.As(err, &ie) {
+		return err
+	}
+	if flag, ok := map[string]string{"trim": "woc-trim", "analysis_alpha": "analysis-alpha", "analysis_beta": "analysis-beta"}[ie.Field]; ok {
+		return &elicit.InputError{Field: flag, Rule: ie.Rule, Detail: ie.Detail}
 	}
 	return err
 }
@@ -349,7 +388,11 @@ func writePlanText(w io.Writer, o planOutput) error {
 		if s.Direction == string(elicit.DirectionAbove) {
 			sign = ">"
 		}
-		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %s: %s\n", sign, s.Threshold, s.Confidence, countOf(o.Trials, "trial", "trials"), elicit.ProbabilityText(*o.Assurance, 4))
+		judged := ""
+		if ap := o.AnalysisPrior; ap != nil {
+			judged = fmt.Sprintf(", judged under the analysis prior Beta(%s, %s) with outcomes drawn from the prior above", shape(ap.Alpha), shape(ap.Beta))
+		}
+		fmt.Fprintf(&b, "assurance that P(θ %s %g | data) ≥ %g after %s%s: %s\n", sign, s.Threshold, s.Confidence, countOf(o.Trials, "trial", "trials"), judged, elicit.ProbabilityText(*o.Assurance, 4))
 		switch {
 		case s.SuccessesFrom > s.SuccessesTo:
 			fmt.Fprintf(&b, "  no outcome of %s meets the criterion\n", countOf(o.Trials, "trial", "trials"))

@@ -255,6 +255,12 @@ func TestPlanBadInput(t *testing.T) {
 		{"trim one", with("--length", "0.1", "--criterion", "woc", "--woc-trim", "1"), []string{"woc-trim", string(elicit.RuleTrimRange)}},
 		{"trim syntax", with("--length", "0.1", "--criterion", "woc", "--woc-trim", "-"), []string{"woc-trim", "plain decimal"}},
 		{"format", append(with(assure...), "--format", "yaml"), []string{"format", "text or json"}},
+		{"analysis alpha alone", with(append(assure, "--analysis-alpha", "1")...), []string{"--analysis-beta", "is required with --analysis-alpha"}},
+		{"analysis beta alone", with(append(assure, "--analysis-beta", "1")...), []string{"--analysis-alpha", "is required with --analysis-beta"}},
+		{"analysis without assurance", with("--analysis-alpha", "1", "--analysis-beta", "1"), []string{"--analysis-alpha", "applies to the assurance"}},
+		{"analysis alpha zero", with(append(assure, "--analysis-alpha", "0", "--analysis-beta", "1")...), []string{"analysis-alpha", string(elicit.RulePositive)}},
+		{"analysis beta too large", with(append(assure, "--analysis-alpha", "1", "--analysis-beta", "1e300")...), []string{"analysis-beta", string(elicit.RuleShapeRange)}},
+		{"analysis beta syntax", with(append(assure, "--analysis-alpha", "1", "--analysis-beta", "one")...), []string{"analysis-beta", "plain decimal"}},
 		{"unknown flag", with("--lenght", "0.1"), []string{"lenght"}},
 		{"stray argument", with("200"), []string{"200", "unexpected argument"}},
 		// A prior at the envelope's edge whose goal no n up to 10⁵ meets:
@@ -456,5 +462,44 @@ func TestJSONCarriesTheCaution(t *testing.T) {
 			!strings.Contains(caution, "regulators") {
 			t.Errorf("%v: caution %q (%v)", args, caution, err)
 		}
+	}
+}
+
+// TestPlanAnalysisPrior: --analysis-alpha and --analysis-beta judge success
+// on the posterior under the analysis prior, with the outcomes drawn from
+// the prior planned under, against SciPy's sum over every outcome
+// (testdata/scipy/two_prior_assurance_reference.py, scipy 1.10.1:
+// Beta(2, 38) planned, Beta(1, 1) analysed, 100 trials, P(θ < 0.08 | data)
+// ≥ 0.95). The JSON names the analysis prior; without the flags it has no
+// such key and the assurance is the one-prior value.
+func TestPlanAnalysisPrior(t *testing.T) {
+	assure := []string{"--alpha", "2", "--beta", "38", "--trials", "100", "--threshold", "0.08", "--direction", "below", "--confidence", "0.95"}
+	got, keys := runPlanJSON(t, append(assure, "--analysis-alpha", "1", "--analysis-beta", "1")...)
+	const want = 0.4324046055593032 // scipy, two_prior_assurance_reference.csv
+	if got.Assurance == nil || math.Abs(*got.Assurance-want) > 1e-11 {
+		t.Fatalf("assurance %v, scipy %.16g", got.Assurance, want)
+	}
+	if got.Success == nil || got.Success.SuccessesFrom != 0 || got.Success.SuccessesTo != 3 {
+		t.Errorf("success %+v, scipy 0:3", got.Success)
+	}
+	var ap map[string]float64
+	if err := json.Unmarshal(keys["analysis_prior"], &ap); err != nil || ap["alpha"] != 1 || ap["beta"] != 1 {
+		t.Errorf("analysis_prior %s (%v), want alpha 1, beta 1", keys["analysis_prior"], err)
+	}
+	// The curve's last point is the assurance itself.
+	if c := got.AssuranceCurve; len(c) == 0 || c[len(c)-1].Trials != 100 || c[len(c)-1].Assurance != *got.Assurance {
+		t.Errorf("curve ends %+v, want 100 trials at the assurance", c[len(c)-1:])
+	}
+	one, keys := runPlanJSON(t, assure...)
+	if _, ok := keys["analysis_prior"]; ok {
+		t.Error("analysis_prior written without the flags")
+	}
+	oneWant, _ := planReference(t, "assurance", "2.0", "38.0", "100", "0.08:below:0.95")
+	if math.Abs(*one.Assurance-oneWant) > 1e-11 {
+		t.Errorf("one prior: assurance %v, scipy %v", *one.Assurance, oneWant)
+	}
+	code, text, errOut := runCLI(t, "", append([]string{"plan"}, append(assure, "--analysis-alpha", "1", "--analysis-beta", "1")...)...)
+	if code != 0 || !strings.Contains(text, "judged under the analysis prior Beta(1, 1) with outcomes drawn from the prior above: 0.4324") {
+		t.Errorf("exit %d, text %q, stderr %q", code, text, errOut)
 	}
 }

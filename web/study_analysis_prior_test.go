@@ -1,0 +1,47 @@
+package web
+
+import (
+	"html"
+	"net/http"
+	"strings"
+	"testing"
+)
+
+// TestStudyJudgesSuccessUnderAnAnalysisPrior: the planning form's "Judge
+// success under" takes the uniform as the analysis prior while the
+// outcomes' chances stay the agreed prior's. Planned under Beta(2, 38)
+// with 100 trials and P(θ < 0.08 | data) ≥ 0.95, the study then succeeds
+// on at most 3 successes, not 4, and its assurance is 43.2%, not 54%
+// (SciPy, testdata/scipy/two_prior_assurance_reference.py: 0.43240,
+// against plan_reference.py's 0.54026 with one prior). The page says
+// which prior judges and which gives the chances; an analysis prior not
+// offered is refused naming the field.
+func TestStudyJudgesSuccessUnderAnAnalysisPrior(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeSample(t, h, qs[0].ID, 2, 40, "about 2 in 40 (invented)")
+	sp := studyPath(ws.ID, qs[0].ID)
+	goal := "&trials=100&threshold=0.08&direction=below&confidence=0.95"
+	res, body := h.get(sp + "?analysis=uniform" + goal)
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("plan: %d", res.StatusCode)
+	}
+	text := html.UnescapeString(body)
+	for _, want := range []string{
+		"the posterior taken under the uniform prior (no judgement), Beta(1, 1), the prior the study's analysis will use; each outcome's chance comes from the agreed prior.",
+		">43.2%<", "at most 3 successes in 100 trials",
+		`<option value="uniform" selected>Uniform: Beta(1, 1)</option>`,
+	} {
+		if !strings.Contains(text, want) {
+			t.Errorf("plan judged under the uniform lacks %q", want)
+		}
+	}
+	// One prior in both parts, as before.
+	_, body = h.get(sp + "?" + goal[1:])
+	text = html.UnescapeString(body)
+	if !strings.Contains(text, "54%") || !strings.Contains(text, "at most 4 successes in 100 trials") || strings.Contains(text, "the posterior taken under") {
+		t.Error("the plan without an analysis prior is not the one-prior plan")
+	}
+	if res, body := h.get(sp + "?analysis=sceptic" + goal); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "analysis") {
+		t.Errorf("an analysis prior not offered: status %d, message beside it: %v", res.StatusCode, hasFieldError(body, "analysis"))
+	}
+}
