@@ -184,7 +184,21 @@ type CriterionResult struct {
 // are left out; they move the sum by less than its rounding. It needs
 // 1 ≤ n ≤ MaxSampleSize.
 func CriterionValue(prior Beta, goal SampleSizeGoal, n int) (CriterionResult, error) {
-	if err := prior.Validate(); err != nil {
+	return CriterionValueUnder(prior, prior, goal, n)
+}
+
+// CriterionValueUnder is CriterionValue with a design prior, whose
+// predictive gives each outcome's probability, and an analysis prior,
+// whose posterior Beta(a + x, b + n − x) gives each outcome's interval
+// (the two priors of Wang & Gelfand 2002, Statist. Sci. 17(2), "sampling"
+// and "fitting"; De Santis 2007, J. R. Statist. Soc. A 170(1), for these
+// criteria). The untrimmed worst outcome does not depend on the design
+// prior: it is the widest interval over every outcome.
+func CriterionValueUnder(design, analysis Beta, goal SampleSizeGoal, n int) (CriterionResult, error) {
+	if err := design.Validate(); err != nil {
+		return CriterionResult{}, err
+	}
+	if err := analysisPrior(analysis); err != nil {
 		return CriterionResult{}, err
 	}
 	if err := goal.Validate(); err != nil {
@@ -193,7 +207,7 @@ func CriterionValue(prior Beta, goal SampleSizeGoal, n int) (CriterionResult, er
 	if err := checkPlanTrials(n, 1, MaxSampleSize); err != nil {
 		return CriterionResult{}, err
 	}
-	r, _, err := criterionAt(prior, goal, n, false)
+	r, _, err := criterionAt(design, analysis, goal, n, false)
 	return r, err
 }
 
@@ -206,13 +220,16 @@ func CriterionValue(prior Beta, goal SampleSizeGoal, n int) (CriterionResult, er
 // likely to decide outwards (see outward): the most probable outcome for
 // ALC and ACC, the kept outcome whose posterior has the largest variance
 // for WOC.
-func criterionAt(prior Beta, goal SampleSizeGoal, n int, settle bool) (CriterionResult, int, error) {
+//
+// The outcomes' probabilities are the design prior's predictive, each
+// outcome's interval the analysis prior's posterior.
+func criterionAt(design, analysis Beta, goal SampleSizeGoal, n int, settle bool) (CriterionResult, int, error) {
 	r := CriterionResult{Trials: n}
 	count := 0
 	var pmf []float64
 	if goal.Criterion != CriterionWOC || goal.Trim > 0 {
 		var err error
-		if pmf, err = PriorPredictive(prior, n); err != nil {
+		if pmf, err = PriorPredictive(design, n); err != nil {
 			return CriterionResult{}, 0, err
 		}
 		// A predictive probability costs about a tenth of a posterior
@@ -221,7 +238,7 @@ func criterionAt(prior Beta, goal SampleSizeGoal, n int, settle bool) (Criterion
 	}
 	tail := (1 - goal.Level) / 2
 	measure := func(x int, s *warm) float64 {
-		p := newPosterior(prior.Alpha+float64(x), prior.Beta+float64(n-x))
+		p := newPosterior(analysis.Alpha+float64(x), analysis.Beta+float64(n-x))
 		s.move(p)
 		switch {
 		case goal.Criterion == CriterionACC && goal.Interval == IntervalEqual:
@@ -237,13 +254,13 @@ func criterionAt(prior Beta, goal SampleSizeGoal, n int, settle bool) (Criterion
 		// The widest posterior interval is usually where the posterior
 		// variance, (A+x)(B+n−x)/((A+B+n)²(A+B+n+1)), is largest: at
 		// x = (n + B − A)/2, or the kept x nearest it.
-		start := int(math.Round(math.Min(math.Max((float64(n)+prior.Beta-prior.Alpha)/2, 0), float64(n))))
+		start := int(math.Round(math.Min(math.Max((float64(n)+analysis.Beta-analysis.Alpha)/2, 0), float64(n))))
 		var keep []bool
 		if goal.Trim > 0 {
 			keep = keptOutcomes(pmf, goal.Trim)
 			best := math.Inf(-1)
 			for x, k := range keep {
-				if v := (prior.Alpha + float64(x)) * (prior.Beta + float64(n-x)); k && v > best {
+				if v := (analysis.Alpha + float64(x)) * (analysis.Beta + float64(n-x)); k && v > best {
 					start, best = x, v
 				}
 			}
@@ -442,7 +459,20 @@ type SampleSizeResult struct {
 // to MaxSampleSize meets the goal, and stops with ctx's error when ctx is
 // done.
 func SampleSize(ctx context.Context, prior Beta, goal SampleSizeGoal) (SampleSizeResult, error) {
-	return sampleSize(ctx, prior, goal, scanWork, MaxSampleSize)
+	return sampleSize(ctx, prior, prior, goal, scanWork, MaxSampleSize)
+}
+
+// SampleSizeUnder is SampleSize with a design and an analysis prior, each
+// n's criterion as CriterionValueUnder; WithoutData is the analysis
+// prior's own interval, the one the analysis starts from.
+func SampleSizeUnder(ctx context.Context, design, analysis Beta, goal SampleSizeGoal) (SampleSizeResult, error) {
+	return sampleSize(ctx, design, analysis, goal, scanWork, MaxSampleSize)
+}
+
+// SampleSizeExhaustiveUnder is SampleSizeExhaustive with a design and an
+// analysis prior.
+func SampleSizeExhaustiveUnder(ctx context.Context, design, analysis Beta, goal SampleSizeGoal) (SampleSizeResult, error) {
+	return sampleSize(ctx, design, analysis, goal, math.MaxInt, MaxSampleSize)
 }
 
 // SampleSizeExhaustive is SampleSize with no limit on the scan: it
@@ -450,14 +480,18 @@ func SampleSize(ctx context.Context, prior Beta, goal SampleSizeGoal) (SampleSiz
 // always the smallest. The cost grows as the square of the answer: about
 // n²/2 posterior intervals, minutes for n in the tens of thousands.
 func SampleSizeExhaustive(ctx context.Context, prior Beta, goal SampleSizeGoal) (SampleSizeResult, error) {
-	return sampleSize(ctx, prior, goal, math.MaxInt, MaxSampleSize)
+	return sampleSize(ctx, prior, prior, goal, math.MaxInt, MaxSampleSize)
 }
 
 // sampleSize scans every n from 1 until the criterion is met or the scan
 // has computed budget posterior intervals, then brackets and bisects; no
-// n above maxN is evaluated.
-func sampleSize(ctx context.Context, prior Beta, goal SampleSizeGoal, budget, maxN int) (SampleSizeResult, error) {
-	if err := prior.Validate(); err != nil {
+// n above maxN is evaluated. Outcomes are drawn from design, intervals
+// taken under analysis.
+func sampleSize(ctx context.Context, design, analysis Beta, goal SampleSizeGoal, budget, maxN int) (SampleSizeResult, error) {
+	if err := design.Validate(); err != nil {
+		return SampleSizeResult{}, err
+	}
+	if err := analysisPrior(analysis); err != nil {
 		return SampleSizeResult{}, err
 	}
 	if err := goal.Validate(); err != nil {
@@ -467,12 +501,12 @@ func sampleSize(ctx context.Context, prior Beta, goal SampleSizeGoal, budget, ma
 		if err := ctx.Err(); err != nil {
 			return CriterionResult{}, 0, err
 		}
-		return criterionAt(prior, goal, n, true)
+		return criterionAt(design, analysis, goal, n, true)
 	}
 	res := SampleSizeResult{Goal: goal}
-	// n = 0 costs one interval: the prior itself (its predictive is the
-	// single outcome 0 with probability 1).
-	without, _, err := criterionAt(prior, goal, 0, false)
+	// n = 0 costs one interval: the analysis prior itself (the predictive
+	// is the single outcome 0 with probability 1).
+	without, _, err := criterionAt(design, analysis, goal, 0, false)
 	if err != nil {
 		return SampleSizeResult{}, err
 	}

@@ -320,7 +320,7 @@ func TestSampleSizeScanFindsWhatBisectionMisses(t *testing.T) {
 	if scan.N != 53 || !scan.Exhaustive || scan.FailsAgainAt != 55 {
 		t.Errorf("scan: %+v", scan)
 	}
-	bisect, err := sampleSize(context.Background(), Beta{2, 38}, goal, 1, MaxSampleSize)
+	bisect, err := sampleSize(context.Background(), Beta{2, 38}, Beta{2, 38}, goal, 1, MaxSampleSize)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -335,7 +335,7 @@ func TestSampleSizeScanFindsWhatBisectionMisses(t *testing.T) {
 // not exhaustive.
 func TestSampleSizeBisection(t *testing.T) {
 	goal := SampleSizeGoal{Criterion: CriterionALC, Interval: IntervalEqual, Level: 0.95, Length: 0.1}
-	got, err := sampleSize(context.Background(), Uniform(), goal, 2000, MaxSampleSize)
+	got, err := sampleSize(context.Background(), Uniform(), Uniform(), goal, 2000, MaxSampleSize)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -356,7 +356,7 @@ func TestSampleSizeUnreachable(t *testing.T) {
 	// Uniform prior, width 0.01 needs about 25600 trials: not within 300,
 	// whether the scan or the bisection gets there.
 	for _, budget := range []int{1_000_000, 500} {
-		_, err := sampleSize(context.Background(), Uniform(), goal, budget, 300)
+		_, err := sampleSize(context.Background(), Uniform(), Uniform(), goal, budget, 300)
 		checkRule(t, err, "length", RuleSampleSizeUnreachable)
 	}
 }
@@ -613,11 +613,11 @@ func TestCriterionSettleAgrees(t *testing.T) {
 	for _, pr := range []Beta{{1, 1}, {2, 38}, {0.5, 0.5}} {
 		for _, g := range goals {
 			for _, n := range []int{1, 5, 40, 100, 250, 400} {
-				full, _, err := criterionAt(pr, g, n, false)
+				full, _, err := criterionAt(pr, pr, g, n, false)
 				if err != nil {
 					t.Fatal(err)
 				}
-				quick, cost, err := criterionAt(pr, g, n, true)
+				quick, cost, err := criterionAt(pr, pr, g, n, true)
 				if err != nil {
 					t.Fatal(err)
 				}

@@ -40,10 +40,11 @@ const (
 	sampleSizeTime = 20 * time.Second
 )
 
-// sizeKey is a sample-size search: the prior and the goal.
+// sizeKey is a sample-size search: the design and analysis priors and
+// the goal.
 type sizeKey struct {
-	prior elicit.Beta
-	goal  elicit.SampleSizeGoal
+	prior, analysis elicit.Beta
+	goal            elicit.SampleSizeGoal
 }
 
 // sampleSizes remembers the sample sizes found, which depend on nothing
@@ -138,9 +139,9 @@ type planView struct {
 	PredPic          chart.PredictiveView
 	Goal             *elicit.SuccessCriterion
 	// Analysis is the prior the study's own analysis will use, on whose
-	// posterior success is judged (elicit.AssuranceUnder); its Value is
-	// "" when it is the prior planned under (Chosen), which then plays
-	// both parts.
+	// posterior success is judged and the sample size's intervals are
+	// taken (elicit.AssuranceUnder, SampleSizeUnder); its Value is "" when
+	// it is the prior planned under (Chosen), which then plays both parts.
 	Analysis priorChoice
 	Assure   *elicit.AssuranceResult
 	Curve    []elicit.AssuranceResult
@@ -541,11 +542,11 @@ func planStudy(ctx context.Context, p planView) planView {
 	p.PredMean, p.PredSD = elicit.PredictiveMoments(prior, p.Trials)
 	p.PredQ = [3]int{elicit.PredictiveQuantile(pmf, 0.05), elicit.PredictiveQuantile(pmf, 0.5), elicit.PredictiveQuantile(pmf, 0.95)}
 	p.PredPic = chart.PredictiveView{ID: "predictive", Trials: p.Trials, PMF: pmf, FollowUp: p.Chosen.AfterData}
+	judged := prior
+	if p.Analysis.Value != "" {
+		judged = p.Analysis.Prior
+	}
 	if p.Goal != nil {
-		judged := prior
-		if p.Analysis.Value != "" {
-			judged = p.Analysis.Prior
-		}
 		a, err := elicit.AssuranceUnder(prior, judged, p.Trials, *p.Goal)
 		if err != nil {
 			f.Fail(err, nil)
@@ -565,12 +566,12 @@ func planStudy(ctx context.Context, p planView) planView {
 		}
 	}
 	if p.Size != nil {
-		res, err := sampleSizes.GetErr(sizeKey{prior, *p.Size}, func() (elicit.SampleSizeResult, error) {
+		res, err := sampleSizes.GetErr(sizeKey{prior, judged, *p.Size}, func() (elicit.SampleSizeResult, error) {
 			// Other views may wait on this search: it runs to its own
 			// deadline even if this view's client goes away.
 			sctx, cancel := context.WithTimeout(context.WithoutCancel(ctx), sampleSizeTime)
 			defer cancel()
-			return elicit.SampleSize(sctx, prior, *p.Size)
+			return elicit.SampleSizeUnder(sctx, prior, judged, *p.Size)
 		})
 		switch {
 		case errors.Is(err, context.DeadlineExceeded):
@@ -580,7 +581,7 @@ func planStudy(ctx context.Context, p planView) planView {
 		default:
 			p.SizeRes = &res
 			if p.Trials <= elicit.MaxSampleSize {
-				if at, err := elicit.CriterionValue(prior, *p.Size, p.Trials); err == nil {
+				if at, err := elicit.CriterionValueUnder(prior, judged, *p.Size, p.Trials); err == nil {
 					p.SizeAt = &at
 				}
 			}
@@ -611,15 +612,31 @@ func analysisChoices(plan []priorChoice) []priorChoice {
 	return out
 }
 
-// judgedWords, after the success criterion's words, name the analysis
-// prior its posterior is taken under, and where the outcomes' chances come
-// from; "" when one prior plays both parts.
+// judgedWords, after the success criterion's or the sample size's goal,
+// name the analysis prior the posterior is taken under, and where the
+// outcomes' chances come from; "" when one prior plays both parts.
 func judgedWords(p planView) string {
 	if p.Analysis.Value == "" {
 		return ""
 	}
 	return ", the posterior taken under " + p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
 		", the prior the study's analysis will use; each outcome's chance comes from " + p.Chosen.InSentence
+}
+
+// sizeJudgedWords say, as a sentence, whose posterior the sample size's
+// intervals are of and where the outcomes' chances come from.
+func sizeJudgedWords(p planView) string {
+	return "The intervals are of the posterior under " + p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
+		", the prior the study's analysis will use; each outcome's chance comes from " + p.Chosen.InSentence + "."
+}
+
+// aloneWords name the prior whose own interval is the criterion with no
+// data: the analysis prior where one is chosen.
+func aloneWords(p planView) string {
+	if p.Analysis.Value == "" {
+		return "The prior alone"
+	}
+	return "The analysis prior alone"
 }
 
 // recordData adds one batch of observed data to the question's agreed

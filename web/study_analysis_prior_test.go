@@ -7,12 +7,12 @@ import (
 	"testing"
 )
 
-// TestStudyJudgesSuccessUnderAnAnalysisPrior: the planning form's "Judge
-// success under" takes the uniform as the analysis prior while the
+// TestStudyJudgesSuccessUnderAnAnalysisPrior: the planning form's "Analysed
+// under" takes the uniform as the analysis prior while the
 // outcomes' chances stay the agreed prior's. Planned under Beta(2, 38)
 // with 100 trials and P(θ < 0.08 | data) ≥ 0.95, the study then succeeds
 // on at most 3 successes, not 4, and its assurance is 43.2%, not 54%
-// (SciPy, testdata/scipy/two_prior_assurance_reference.py: 0.43240,
+// (SciPy, testdata/scipy/two_prior_plan_reference.py: 0.43240,
 // against plan_reference.py's 0.54026 with one prior). The page says
 // which prior judges and which gives the chances; an analysis prior not
 // offered is refused naming the field.
@@ -34,6 +34,20 @@ func TestStudyJudgesSuccessUnderAnAnalysisPrior(t *testing.T) {
 		if !strings.Contains(text, want) {
 			t.Errorf("plan judged under the uniform lacks %q", want)
 		}
+	}
+	// The sample size's intervals under the uniform: 188 trials for 95%
+	// equal-tailed intervals 0.06 wide on average (SciPy,
+	// two_prior_plan_reference.py), where the agreed prior analysed under
+	// itself needs 140 (plan_reference.py).
+	_, body = h.get(sp + "?analysis=uniform&trials=100&length=0.06&level=0.95&criterion=alc&interval=equal")
+	text = html.UnescapeString(body)
+	for _, want := range []string{"188 trials", "The intervals are of the posterior under the uniform prior (no judgement), Beta(1, 1), the prior the study's analysis will use; each outcome's chance comes from the agreed prior."} {
+		if !strings.Contains(text, want) {
+			t.Errorf("sample size analysed under the uniform lacks %q", want)
+		}
+	}
+	if _, body := h.get(sp + "?trials=100&length=0.06&level=0.95&criterion=alc&interval=equal"); !strings.Contains(body, "140 trials") {
+		t.Error("the sample size analysed under the agreed prior itself is not 140 trials")
 	}
 	// One prior in both parts, as before.
 	_, body = h.get(sp + "?" + goal[1:])

@@ -14,7 +14,7 @@ import (
 )
 
 func init() {
-	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence, [--analysis-alpha, --analysis-beta]], [--length, --level, --criterion, --interval, --woc-trim, --exhaustive], --format)", runPlan)
+	command("plan", "plan a study from a Beta prior (--alpha, --beta, --trials, [--threshold, --direction, --confidence], [--length, --level, --criterion, --interval, --woc-trim, --exhaustive], [--analysis-alpha, --analysis-beta], --format)", runPlan)
 }
 
 // curvePoints is how many numbers of trials the assurance curve has.
@@ -42,9 +42,9 @@ type planOutput struct {
 	// Assurance, with Success, when --threshold is given.
 	Assurance *float64 `json:"assurance,omitempty"`
 	// AnalysisPrior, when --analysis-alpha and --analysis-beta are given,
-	// is the prior the study's analysis will use: success is judged on
-	// its posterior, while the outcomes are drawn from the prior above
-	// (the design prior).
+	// is the prior the study's analysis will use: success is judged, and
+	// the sample size's intervals taken, on its posterior, while the
+	// outcomes are drawn from the prior above (the design prior).
 	AnalysisPrior  *planPrior           `json:"analysis_prior,omitempty"`
 	Success        *planSuccess         `json:"success,omitempty"`
 	AssuranceCurve []planAssurancePoint `json:"assurance_curve,omitempty"`
@@ -126,8 +126,8 @@ func runPlan(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&a.threshold, "threshold", "", "assurance: the threshold T of the success criterion, strictly between 0 and 1 (0.08, or 8%)")
 	fs.StringVar(&a.direction, "direction", "", "assurance: below (success when P(θ < T | data) ≥ G) or above (P(θ > T | data) ≥ G)")
 	fs.StringVar(&a.confidence, "confidence", "", "assurance: the posterior probability G the criterion asks for, strictly between 0 and 1 (0.95, or 95%)")
-	fs.StringVar(&a.analysisAlpha, "analysis-alpha", "", "assurance: alpha of the analysis prior, on whose posterior success is judged (with --analysis-beta; without them, the prior above)")
-	fs.StringVar(&a.analysisBeta, "analysis-beta", "", "assurance: beta of the analysis prior (with --analysis-alpha)")
+	fs.StringVar(&a.analysisAlpha, "analysis-alpha", "", "assurance and sample size: alpha of the analysis prior, on whose posterior success is judged and intervals are taken (with --analysis-beta; without them, the prior above)")
+	fs.StringVar(&a.analysisBeta, "analysis-beta", "", "assurance and sample size: beta of the analysis prior (with --analysis-alpha)")
 	fs.StringVar(&a.length, "length", "", "sample size: the interval length l, strictly between 0 and 1 (0.04, or 4%)")
 	fs.StringVar(&a.level, "level", "0.95", "sample size: the coverage of the credible intervals (0.95, or 95%)")
 	fs.StringVar(&a.criterion, "criterion", "alc", "sample size: alc (average length), acc (average coverage) or woc (worst outcome)")
@@ -174,15 +174,15 @@ func checkPlanGroups(a planArgs) error {
 			break
 		}
 	}
-	// The analysis prior comes whole, and only with a success criterion,
-	// the one thing it is used for.
+	// The analysis prior comes whole, and only with a success criterion
+	// or a sample size, the things it is used for.
 	for _, pair := range [][2]string{{"analysis-alpha", "analysis-beta"}, {"analysis-beta", "analysis-alpha"}} {
 		if a.set[pair[0]] && !a.set[pair[1]] {
 			return badInput(pair[1], "is required with --%s", pair[0])
 		}
 	}
-	if a.set["analysis-alpha"] && !a.set["threshold"] {
-		return badInput("analysis-alpha", "applies to the assurance: give --threshold, --direction and --confidence too")
+	if a.set["analysis-alpha"] && !a.set["threshold"] && !a.set["length"] {
+		return badInput("analysis-alpha", "applies to the assurance and the sample size: give --threshold, --direction and --confidence, or --length, too")
 	}
 	var given []string
 	for _, f := range []string{"level", "criterion", "interval", "woc-trim", "exhaustive"} {
@@ -279,15 +279,16 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 		},
 		Warnings: []string{},
 	}
+	if a.set["analysis-alpha"] {
+		out.AnalysisPrior = &planPrior{analysis.Alpha, analysis.Beta}
+	}
 	nums := append([]float64{out.PriorMean, out.PriorSD, out.DataShare, out.PredictiveMean, out.PredictiveSD}, pmf...)
 	if goal != nil {
 		r, err := elicit.AssuranceUnder(prior, analysis, n, *goal)
 		if err != nil {
 			return planOutput{}, flagNames(err)
 		}
-		if a.set["analysis-alpha"] {
-			out.AnalysisPrior = &planPrior{analysis.Alpha, analysis.Beta}
-		}
+
 		out.Assurance = &r.Assurance
 		out.Success = &planSuccess{Threshold: goal.Threshold, Direction: string(goal.Direction), Confidence: goal.Confidence,
 			SuccessesFrom: r.SuccessFrom, SuccessesTo: r.SuccessTo}
@@ -302,13 +303,13 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 		nums = append(nums, r.Assurance)
 	}
 	if size != nil {
-		search := elicit.SampleSize
+		search := elicit.SampleSizeUnder
 		if a.exhaustive {
-			search = elicit.SampleSizeExhaustive
+			search = elicit.SampleSizeExhaustiveUnder
 		}
-		r, err := search(ctx, prior, *size)
+		r, err := search(ctx, prior, analysis, *size)
 		if err != nil {
-			return planOutput{}, err
+			return planOutput{}, flagNames(err)
 		}
 		ss := &planSampleSize{
 			Criterion: string(size.Criterion), Interval: string(size.Interval), Level: size.Level, Length: size.Length,
@@ -321,7 +322,7 @@ func planCommand(ctx context.Context, a planArgs) (planOutput, error) {
 			ss.WorstOutcome = &r.At.Worst
 		}
 		if n <= elicit.MaxSampleSize {
-			at, err := elicit.CriterionValue(prior, *size, n)
+			at, err := elicit.CriterionValueUnder(prior, analysis, *size, n)
 			if err != nil {
 				return planOutput{}, err
 			}
@@ -429,6 +430,11 @@ func writePlanText(w io.Writer, o planOutput) error {
 				goal += fmt.Sprintf(", leaving aside unlikely outcomes of total probability %g", s.Trim)
 			}
 		}
+		alone := "the prior"
+		if ap := o.AnalysisPrior; ap != nil {
+			goal += fmt.Sprintf(" (intervals of the posterior under the analysis prior Beta(%s, %s), outcomes drawn from the prior above)", shape(ap.Alpha), shape(ap.Beta))
+			alone = "the analysis prior"
+		}
 		fmt.Fprintf(&b, "sample size by %s (%s), the smallest n for which %s: n = %d\n", words[0], s.Criterion, goal, s.N)
 		// The value with the figures that keep it on its own side of the
 		// goal (elicit.SideDigits), as the study page writes it.
@@ -444,7 +450,7 @@ func writePlanText(w io.Writer, o planOutput) error {
 			b.WriteString("\n")
 		}
 		if s.MetWithoutData {
-			fmt.Fprintf(&b, "  the prior alone, before any trial, already meets the goal (%s with no data: %s): the goal calls for no study, and n = %d is the smallest study that keeps it; check that the prior is not surer than the evidence behind it\n", words[1], beside(s.ValueWithoutData), s.N)
+			fmt.Fprintf(&b, "  %s alone, before any trial, already meets the goal (%s with no data: %s): the goal calls for no study, and n = %d is the smallest study that keeps it; check that the prior is not surer than the evidence behind it\n", alone, words[1], beside(s.ValueWithoutData), s.N)
 		}
 		if s.ValueAtTrials != nil {
 			met := "not met"

@@ -257,7 +257,8 @@ func TestPlanBadInput(t *testing.T) {
 		{"format", append(with(assure...), "--format", "yaml"), []string{"format", "text or json"}},
 		{"analysis alpha alone", with(append(assure, "--analysis-alpha", "1")...), []string{"--analysis-beta", "is required with --analysis-alpha"}},
 		{"analysis beta alone", with(append(assure, "--analysis-beta", "1")...), []string{"--analysis-alpha", "is required with --analysis-beta"}},
-		{"analysis without assurance", with("--analysis-alpha", "1", "--analysis-beta", "1"), []string{"--analysis-alpha", "applies to the assurance"}},
+		{"analysis without assurance or sample size", with("--analysis-alpha", "1", "--analysis-beta", "1"), []string{"--analysis-alpha", "applies to the assurance and the sample size"}},
+		{"analysis alpha zero, sample size", with("--length", "0.06", "--analysis-alpha", "0", "--analysis-beta", "1"), []string{"analysis-alpha", string(elicit.RulePositive)}},
 		{"analysis alpha zero", with(append(assure, "--analysis-alpha", "0", "--analysis-beta", "1")...), []string{"analysis-alpha", string(elicit.RulePositive)}},
 		{"analysis beta too large", with(append(assure, "--analysis-alpha", "1", "--analysis-beta", "1e300")...), []string{"analysis-beta", string(elicit.RuleShapeRange)}},
 		{"analysis beta syntax", with(append(assure, "--analysis-alpha", "1", "--analysis-beta", "one")...), []string{"analysis-beta", "plain decimal"}},
@@ -466,16 +467,18 @@ func TestJSONCarriesTheCaution(t *testing.T) {
 }
 
 // TestPlanAnalysisPrior: --analysis-alpha and --analysis-beta judge success
-// on the posterior under the analysis prior, with the outcomes drawn from
-// the prior planned under, against SciPy's sum over every outcome
-// (testdata/scipy/two_prior_assurance_reference.py, scipy 1.10.1:
-// Beta(2, 38) planned, Beta(1, 1) analysed, 100 trials, P(θ < 0.08 | data)
-// ≥ 0.95). The JSON names the analysis prior; without the flags it has no
-// such key and the assurance is the one-prior value.
+// and take the sample size's intervals on the posterior under the
+// analysis prior, with the outcomes drawn from the prior planned under,
+// against SciPy's sums over every outcome
+// (testdata/scipy/two_prior_plan_reference.py, scipy 1.10.1: Beta(2, 38)
+// planned, Beta(1, 1) analysed, 100 trials, P(θ < 0.08 | data) ≥ 0.95;
+// 95% equal-tailed intervals 0.06 wide on average need 188 trials). The
+// JSON names the analysis prior; without the flags it has no such key and
+// the assurance is the one-prior value.
 func TestPlanAnalysisPrior(t *testing.T) {
 	assure := []string{"--alpha", "2", "--beta", "38", "--trials", "100", "--threshold", "0.08", "--direction", "below", "--confidence", "0.95"}
 	got, keys := runPlanJSON(t, append(assure, "--analysis-alpha", "1", "--analysis-beta", "1")...)
-	const want = 0.4324046055593032 // scipy, two_prior_assurance_reference.csv
+	const want = 0.4324046055593032 // scipy, two_prior_plan_reference.csv
 	if got.Assurance == nil || math.Abs(*got.Assurance-want) > 1e-11 {
 		t.Fatalf("assurance %v, scipy %.16g", got.Assurance, want)
 	}
@@ -497,6 +500,10 @@ func TestPlanAnalysisPrior(t *testing.T) {
 	oneWant, _ := planReference(t, "assurance", "2.0", "38.0", "100", "0.08:below:0.95")
 	if math.Abs(*one.Assurance-oneWant) > 1e-11 {
 		t.Errorf("one prior: assurance %v, scipy %v", *one.Assurance, oneWant)
+	}
+	size, _ := runPlanJSON(t, "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.06", "--analysis-alpha", "1", "--analysis-beta", "1")
+	if s := size.SampleSize; s == nil || s.N != 188 || math.Abs(s.Value-0.059865411024131905) > 1e-9 || s.ValueWithoutData != 0.95 || size.AnalysisPrior == nil {
+		t.Errorf("sample size under the uniform analysis: %+v, scipy n 188 (0.0598654), 0.95 with no data", s)
 	}
 	code, text, errOut := runCLI(t, "", append([]string{"plan"}, append(assure, "--analysis-alpha", "1", "--analysis-beta", "1")...)...)
 	if code != 0 || !strings.Contains(text, "judged under the analysis prior Beta(1, 1) with outcomes drawn from the prior above: 0.4324") {
