@@ -31,6 +31,10 @@ func TestReportPrintsEveryRerunOfAWideWorkshop(t *testing.T) {
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, s, fac)
+	// The report prints the reruns where something rests on them: with
+	// the performance weights in force.
+	fac.open(s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/")
+	fac.postFromPage(s.URL+"/w/"+strconv.FormatInt(ws.ID, 10)+"/calibration/weights", "scheme=performance&reason=Classical+model+weights+%28invented%29.")
 	fac.open(s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/report")
 	cells := eval[[]string](fac, "the reruns' numbers", `Array.from(document.querySelectorAll(".table-steadiness td.num")).map(td => td.textContent.trim()).filter(s => s !== "")`)
 	if len(cells) < 12*4 {

@@ -767,6 +767,33 @@ type weightSetRow struct {
 // weightSetRows lists every weight set of the record, oldest first, with
 // what it was made from and the agreed priors recorded while it was in
 // force (workshop.AgreedPrior.WeightSetID).
+// reportsRobustness says whether the report prints the robustness
+// reruns of the performance weights: when those weights are in force, or
+// when a prior from the pool was agreed under a set of performance
+// weights.
+// Otherwise they are about a pool nothing rests on, and in a big workshop
+// they ran to some 70 printed pages even under equal weights; the
+// calibration page and the record's JSON keep them.
+func reportsRobustness(r record.Record) bool {
+	if r.Performance != nil && r.Performance.InForce {
+		return true
+	}
+	performance := map[int64]bool{}
+	for _, w := range r.WeightHistory {
+		if w.Scheme == workshop.WeightsPerformance {
+			performance[w.ID] = true
+		}
+	}
+	for _, q := range r.Questions {
+		for _, ap := range q.PriorHistory {
+			if ap.Source == workshop.PriorFromPool && performance[ap.WeightSetID] {
+				return true
+			}
+		}
+	}
+	return false
+}
+
 func weightSetRows(r record.Record) []weightSetRow {
 	names := map[int64]string{}
 	for _, e := range r.Experts {
