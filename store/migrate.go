@@ -91,6 +91,15 @@ func (db *DB) MigrateTo(ctx context.Context, version int) error {
 	if current >= version {
 		return nil
 	}
+	// A new database (version 0) has no server of another version; an
+	// older one served by another process is not upgraded under it.
+	if current > 0 {
+		if pid, held, err := servedElsewhere(db.path); err != nil {
+			return err
+		} else if held {
+			return &ServedUpgradeError{Database: db.path, From: current, To: version, PID: pid}
+		}
+	}
 	for _, m := range ms[current:version] {
 		err := db.write(ctx, func(tx *sql.Tx) error {
 			// Another process may have applied it since we looked.

@@ -8,6 +8,7 @@ import (
 	"path/filepath"
 	"strconv"
 	"strings"
+	"sync"
 	"syscall"
 )
 
@@ -24,8 +25,16 @@ import (
 
 // ServingClaim is a server's hold on its database file.
 type ServingClaim struct {
-	f *os.File
+	f    *os.File
+	lock string // the lock file's name, as ours records it
 }
+
+// ours are the lock files this process holds through ClaimServing: a
+// server's own Open may upgrade the file it claimed (servedElsewhere).
+var ours = struct {
+	sync.Mutex
+	m map[string]bool
+}{m: map[string]bool{}}
 
 // HeldError says the database is already served by another process.
 type HeldError struct {
@@ -99,7 +108,63 @@ func ClaimServing(path string) (*ServingClaim, error) {
 		f.Close()
 		return nil, fmt.Errorf("store: lock file %s: %w", lock, err)
 	}
-	return &ServingClaim{f: f}, nil
+	ours.Lock()
+	ours.m[lock] = true
+	ours.Unlock()
+	return &ServingClaim{f: f, lock: lock}, nil
+}
+
+// servedElsewhere reports whether another process serves the database at
+// path (holds its lock file's flock), with that process's id when it
+// wrote it. A claim of this process's own is not another's. It takes a
+// shared lock for an instant, which a server's exclusive claim refuses.
+func servedElsewhere(path string) (pid int, held bool, err error) {
+	real, err := realName(path)
+	if err != nil {
+		return 0, false, err
+	}
+	lock := LockFile(real)
+	ours.Lock()
+	mine := ours.m[lock]
+	ours.Unlock()
+	if mine {
+		return 0, false, nil
+	}
+	f, err := os.Open(lock)
+	if errors.Is(err, fs.ErrNotExist) {
+		return 0, false, nil // never served
+	}
+	if err != nil {
+		return 0, false, fmt.Errorf("store: lock file %s: %w", lock, err)
+	}
+	defer f.Close()
+	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_SH|syscall.LOCK_NB); err != nil {
+		if errors.Is(err, syscall.EWOULDBLOCK) {
+			return readPID(f), true, nil
+		}
+		return 0, false, fmt.Errorf("store: lock %s: %w", lock, err)
+	}
+	return 0, false, nil // closing the file drops the shared lock
+}
+
+// ServedUpgradeError says a command would upgrade the schema of a
+// database that another process, a server of an older Parley, is
+// serving: the server would go on writing its own schema's rows into the
+// upgraded file.
+type ServedUpgradeError struct {
+	Database string
+	From, To int // schema versions: the file's, and this Parley's
+	PID      int // the server's process id, 0 when unknown
+}
+
+func (e *ServedUpgradeError) Error() string {
+	who := "another process"
+	if e.PID > 0 {
+		who = "process " + strconv.Itoa(e.PID)
+	}
+	return fmt.Sprintf("%s is being served by %s at schema version %d, and this Parley would upgrade it to %d "+
+		"underneath that server; nothing was changed. Stop the server first (this version's `parley serve` "+
+		"upgrades the file when it starts), or use the Parley that serves it", e.Database, who, e.From, e.To)
 }
 
 // oneName refuses a database file with more than one name (hard links)
@@ -156,6 +221,9 @@ func (c *ServingClaim) Release() error {
 	}
 	err := c.f.Close() // closing the descriptor drops the flock
 	c.f = nil
+	ours.Lock()
+	delete(ours.m, c.lock)
+	ours.Unlock()
 	return err
 }
 
