@@ -44,12 +44,8 @@ type HeldError struct {
 }
 
 func (e *HeldError) Error() string {
-	who := "another process"
-	if e.PID > 0 {
-		who = "process " + strconv.Itoa(e.PID)
-	}
 	return fmt.Sprintf("%s is already being served by another Parley server (%s holds %s); "+
-		"stop that server first, or serve another file with --db", e.Database, who, e.LockFile)
+		"stop that server first, or serve another file with --db", e.Database, holder(e.PID), e.LockFile)
 }
 
 // LockFile is the lock file beside the database at path.
@@ -158,13 +154,18 @@ type ServedUpgradeError struct {
 }
 
 func (e *ServedUpgradeError) Error() string {
-	who := "another process"
-	if e.PID > 0 {
-		who = "process " + strconv.Itoa(e.PID)
-	}
 	return fmt.Sprintf("%s is being served by %s at schema version %d, and this Parley would upgrade it to %d "+
 		"underneath that server; nothing was changed. Stop the server first (this version's `parley serve` "+
-		"upgrades the file when it starts), or use the Parley that serves it", e.Database, who, e.From, e.To)
+		"upgrades the file when it starts), or use the Parley that serves it", e.Database, holder(e.PID), e.From, e.To)
+}
+
+// holder names the process holding a lock file: by its id when it wrote
+// one.
+func holder(pid int) string {
+	if pid > 0 {
+		return "process " + strconv.Itoa(pid)
+	}
+	return "another process"
 }
 
 // oneName refuses a database file with more than one name (hard links)

@@ -179,6 +179,33 @@ def met(crit, level, l, v):
     return v >= level if crit == "acc" else v <= l
 
 
+def smallest_n(A, B, crit, kind, level, l, trim, analysis=None):
+    """Tries n = 1, 2, 3, ... until the goal is met (N), then N + 1 ..
+    2N + 10 until it fails again (again, 0 if it does not). Returns the
+    criterion at every n tried, N and again."""
+    value = {}
+    n = 1
+    while True:
+        value[n] = criterion(A, B, crit, kind, level, l, trim, n, analysis)
+        if met(crit, level, l, value[n]):
+            break
+        n += 1
+    N = n
+    again = 0
+    for m in range(N + 1, 2 * N + 11):
+        value[m] = criterion(A, B, crit, kind, level, l, trim, m, analysis)
+        if not met(crit, level, l, value[m]):
+            again = m
+            break
+    return value, N, again
+
+
+def shown(value, N, again):
+    """The n whose criterion rows are written: 1, 2, 3, N - 1 .. N + 3 and
+    the first that fails again."""
+    return [m for m in sorted(value) if m <= 3 or N - 1 <= m <= N + 3 or m == again]
+
+
 def assurance(A, B, n, T, direction, G, analysis=None):
     """Outcomes drawn from Beta(A, B), success judged on the posterior
     under `analysis`, a pair (a0, b0), or under Beta(A, B) when None."""
@@ -246,23 +273,9 @@ def main():
     for A, B, crit, kind, level, l, trim in goals:
         spec = f"{crit}:{kind}:{level!r}:{l!r}:{trim!r}"
         print(f"goal {A} {B} {spec}", file=sys.stderr)
-        value = {}
-        n = 1
-        while True:
-            value[n] = criterion(A, B, crit, kind, level, l, trim, n)
-            if met(crit, level, l, value[n]):
-                break
-            n += 1
-        N = n
-        again = 0
-        for m in range(N + 1, 2 * N + 11):
-            value[m] = criterion(A, B, crit, kind, level, l, trim, m)
-            if not met(crit, level, l, value[m]):
-                again = m
-                break
-        for m in sorted(value):
-            if m <= 3 or N - 1 <= m <= N + 3 or m == again:
-                row("criterion", A, B, m, spec, value[m])
+        value, N, again = smallest_n(A, B, crit, kind, level, l, trim)
+        for m in shown(value, N, again):
+            row("criterion", A, B, m, spec, value[m])
         row("samplesize", A, B, N, spec, value[N], again)
 
     # Coverage where the equal-tailed interval's lower end lies far below

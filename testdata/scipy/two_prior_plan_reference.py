@@ -36,7 +36,7 @@ import numpy as np
 import scipy
 
 sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
-from plan_reference import assurance, criterion, met  # noqa: E402
+from plan_reference import assurance, shown, smallest_n  # noqa: E402
 
 
 def row(kind, A, B, a, b, n, spec, value, extra=""):
@@ -81,23 +81,9 @@ def main():
     for A, B, a, b, crit, kind, level, l, trim in goals:
         spec = f"{crit}:{kind}:{level!r}:{l!r}:{trim!r}"
         print(f"goal {A} {B} {a} {b} {spec}", file=sys.stderr)
-        value = {}
-        n = 1
-        while True:
-            value[n] = criterion(A, B, crit, kind, level, l, trim, n, analysis=(a, b))
-            if met(crit, level, l, value[n]):
-                break
-            n += 1
-        N = n
-        again = 0
-        for m in range(N + 1, 2 * N + 11):
-            value[m] = criterion(A, B, crit, kind, level, l, trim, m, analysis=(a, b))
-            if not met(crit, level, l, value[m]):
-                again = m
-                break
-        for m in sorted(value):
-            if m <= 3 or N - 1 <= m <= N + 3 or m == again:
-                row("criterion", A, B, a, b, m, spec, value[m])
+        value, N, again = smallest_n(A, B, crit, kind, level, l, trim, analysis=(a, b))
+        for m in shown(value, N, again):
+            row("criterion", A, B, a, b, m, spec, value[m])
         row("samplesize", A, B, a, b, N, spec, value[N], again)
 
 
