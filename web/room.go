@@ -264,6 +264,13 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		}
 		return nil
 	}
+	if len(fb.members) < roomLeastAnswers {
+		// The room has just watched the count of answers tick up: a lone
+		// curve, "Expert A's median, the only answer", was the answer of
+		// whoever it saw saved.
+		v.Note = fewAnswersNote(len(fb.members), fb.lettered > len(fb.members), v.Through)
+		return nil
+	}
 	id := "room-q" + strconv.FormatInt(q.ID, 10)
 	var curves []chart.Curve
 	var dists []elicit.ScaledBeta
@@ -288,14 +295,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth, Room: true}
 		v.ChartNotes = chart.SpreadNotes(*v.Spread)
 	} else {
-		switch {
-		case fb.poolErr != nil:
-		case len(curves) == 1:
-			// A pool of one is that expert's curve: drawn after it, its
-			// thick line hid the expert's, whose legend then named a line
-			// the room could not find. The expert is drawn above it.
-			curves = append([]chart.Curve{poolCurve(fb.pool)}, curves...)
-		default:
+		if fb.poolErr == nil {
 			curves = append(curves, poolCurve(fb.pool))
 		}
 		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth, Room: true}
@@ -303,6 +303,30 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 	}
 	v.Reasons = fb.reasons(0)
 	return nil
+}
+
+// roomLeastAnswers is the fewest answers, from experts still on the
+// panel, that the room view shows a question's panel with (its curves,
+// medians and reasons). With fewer, the one answer shown is the answer of
+// the expert the room may have watched save, so the page says how many
+// answered and that the panel appears from this many (fewAnswersNote).
+const roomLeastAnswers = 2
+
+// fewAnswersNote says that the room shows no panel for a question that
+// fewer than roomLeastAnswers experts still on the panel had answered
+// when round `through` closed; left says some who answered have left it.
+func fewAnswersNote(answered int, left bool, through int) string {
+	who := "expert"
+	if left {
+		who = "expert still on the panel"
+	}
+	had := "No " + who + " had"
+	if answered == 1 {
+		had = "Only one " + who + " had"
+	}
+	return had + " answered this question when round " + strconv.Itoa(through) + " closed. " +
+		"The room is shown a question's answers only once at least " + numberWord(roomLeastAnswers) +
+		" experts have answered it by a round's close, so that no expert's answer is shown on its own."
 }
 
 // shownWords, fingerprintLead and fingerprintNote are sentences of the

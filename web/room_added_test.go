@@ -17,7 +17,7 @@ import (
 // its first answers in round 2 are answers too, and where some of the
 // round's saves revise and some are first answers, both are said.
 func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
-	h, ws, qs, _, links := seeded(t)
+	h, ws, qs, es, links := seeded(t)
 	wp := workshopPath(ws.ID)
 	// A question nobody answers in round 1, asked from its start.
 	early := h.addQuantileQuestion(t, ws.ID, "Asked in round 1 (invented)?", "spares used")
@@ -52,7 +52,9 @@ func TestRoomOfAQuestionAddedMidWorkshop(t *testing.T) {
 	if _, body := h.get(roomPath(ws.ID, qs[0].ID)); !strings.Contains(body, "2 of 4 experts have answered or revised this question in round 2 so far.") {
 		t.Error("room of Q1: a first answer and a revision in round 2 are not both said")
 	}
-	// Round 2 closed: the question's answers are shown as any other's.
+	// Round 2 closed: the question's answers are shown as any other's,
+	// a second expert having answered it (roomLeastAnswers).
+	answerAlso(t, h, late, 2, es, links, "0.02", "0.06", "0.25")
 	if res, _ := h.post(wp+"/round", url.Values{"action": {"close"}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("close round 2: %d", res.StatusCode)
 	}

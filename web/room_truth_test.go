@@ -19,11 +19,13 @@ import (
 // at all, and the facilitator's picture no line though the value is
 // stored).
 func TestRoomAndPanelDrawTheTrueValueOnlyOnceRevealed(t *testing.T) {
-	h, ws, qs, _, _ := seeded(t)
+	h, ws, qs, es, links := seeded(t)
 	q := qs[2]
 	if q.TrueValue == nil || !q.Calibration {
 		t.Fatal("the seed's question 3 is not a calibration question with a true value")
 	}
+	// The demo's one answer to it, and a second, for the room to show.
+	answerAlso(t, h, q, 1, es, links, "0.2", "0.3", "0.45")
 	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != 303 {
 		t.Fatalf("close: %d", r.StatusCode)
 	}
