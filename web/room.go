@@ -46,6 +46,10 @@ type roomView struct {
 	ChartNotes []string
 	Truth      string // the revealed true value, "" before the reveal
 	Note       string // why there is no panel, when there is none
+	// Left counts the experts who had answered by the round's close and
+	// no longer take part (revoked): their letters are missing from the
+	// panel, and shownWords says why.
+	Left int
 	// Held is set for a calibration question whose true value is not yet
 	// revealed: the room shows none of its answers, as the experts' pages
 	// do not (workshop.Question.PanelHeld).
@@ -271,6 +275,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		v.Note = fewAnswersNote(len(fb.members), fb.lettered > len(fb.members), v.Through)
 		return nil
 	}
+	v.Left = fb.lettered - len(fb.members)
 	id := "room-q" + strconv.FormatInt(q.ID, 10)
 	var curves []chart.Curve
 	var dists []elicit.ScaledBeta
@@ -334,8 +339,17 @@ func fewAnswersNote(answered int, left bool, through int) string {
 // lines of (layOutReasons). shownWords stands only over a panel shown: over
 // "Nobody had answered this question" or a retired question it promised
 // every expert's answer on a screen that showed none.
+//
+// After a revocation the room read "Expert A, C, D" with no word of B;
+// the words say a letter is missing and why, naming nobody (the letters
+// stay, newFeedback).
 func (v roomView) shownWords() string {
-	return "Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
+	if v.Left == 0 {
+		return "Shown: every expert's answer as round " + strconv.Itoa(v.Through) + " closed, without names."
+	}
+	return "Shown: the answers of the experts still on the panel as round " + strconv.Itoa(v.Through) + " closed, without names. " +
+		upperFirst(numberWord(v.Left)) + " " + plural(v.Left, "expert who had answered no longer takes part, so one letter is missing", "experts who had answered no longer take part, so "+numberWord(v.Left)+" letters are missing") +
+		"; the others keep theirs."
 }
 
 func (v roomView) fingerprintLead() string {
