@@ -1,9 +1,13 @@
 package e2e
 
 import (
+	"context"
 	"fmt"
 	"strconv"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // TestNoAxeViolationOfAnyImpact runs axe-core on the pages an expert and
@@ -33,12 +37,23 @@ func TestNoAxeViolationOfAnyImpact(t *testing.T) {
 			t.Errorf("%s: %s", where, f)
 		}
 	}
+	// An agreed prior on Q1, for the room view's prior display.
+	in := elicit.ConstructionInput{Method: elicit.MethodEquivalentSample, Successes: 2, Trials: 30, Upper: 1}
+	made, err := elicit.Construct(in)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := g.site.DB.AgreePrior(context.Background(), &workshop.AgreedPrior{QuestionID: g.qs[0].ID, Source: workshop.PriorFromConstruction,
+		Dist: made.Dist, Construction: &in, Rationale: "Two bursts in thirty mains (invented).", RoundOpen: true}); err != nil {
+		t.Fatal(err)
+	}
 	facPages := map[string]string{
 		"workshops":    g.site.URL + "/",
 		"overview":     g.wsURL(),
 		"panel Q1":     g.wsURL() + "/q/" + q(0),
 		"panel chips":  g.wsURL() + "/q/" + q(2),
 		"room view":    g.wsURL() + "/q/" + q(0) + "/room",
+		"room prior":   g.wsURL() + "/q/" + q(0) + "/room?show=prior",
 		"calibration":  g.wsURL() + "/calibration",
 		"log":          g.wsURL() + "/log",
 		"report":       g.wsURL() + "/report",

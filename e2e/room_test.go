@@ -110,10 +110,10 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 		"Supplier audits found two line faults (invented).")
 	noLeaks(t, room, experts, qs)
 	// Nothing on the room view leaves it: its only links are room
-	// views, its neighbours' and its own reasons display's.
+	// views, its neighbours' and its own reasons and prior displays'.
 	hrefs := eval[[]string](room, "the room's links", `Array.from(document.querySelectorAll("a[href]")).map(a => a.getAttribute("href"))`)
 	for _, h := range hrefs {
-		if !regexp.MustCompile(`/q/\d+/room(\?show=reasons(&page=\d+)?)?$`).MatchString(h) && !strings.HasPrefix(h, "#") {
+		if !regexp.MustCompile(`/q/\d+/room(\?show=reasons(&page=\d+)?|\?show=prior)?$`).MatchString(h) && !strings.HasPrefix(h, "#") {
 			t.Errorf("the room view links out of itself: %q", h)
 		}
 	}

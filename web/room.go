@@ -70,6 +70,13 @@ type roomView struct {
 	Heading     string
 	Back        string
 	PastEnd     string // a page past the last, said in words
+	// The agreed prior (room_prior.go): PriorLink leads to its display
+	// where one is agreed; on the display (ShowPrior) Prior is the prior,
+	// or PriorMissing says why none is shown.
+	PriorLink    string
+	ShowPrior    bool
+	Prior        *roomPrior
+	PriorMissing string
 	// PrevWords and NextWords name Prev and Next.
 	PrevWords, NextWords string
 
@@ -138,10 +145,20 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	layOutReasons(&v, roomPath(ws.ID, q.ID), show, page)
+	room := roomPath(ws.ID, q.ID)
+	if err := s.fillRoomPrior(r, q, &v, room, show == "prior"); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	title := "Room view · Q"
-	if show {
+	switch show {
+	case "reasons":
 		title = "Room view, reasons · Q"
+	case "prior":
+		title = "Room view, agreed prior · Q"
+	}
+	if show != "prior" {
+		layOutReasons(&v, room, show == "reasons", page)
 	}
 	m := pageMeta{Title: title + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
 		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
@@ -361,30 +378,30 @@ func (v roomView) fingerprintNote() string {
 }
 
 // roomQuery reads the room view's address: ?show=reasons for the reasons
-// display, and &page=N (from 1) for its pages; anything else is refused
-// in words naming the field.
-func roomQuery(r *http.Request) (show bool, page int, msg string) {
+// display, and &page=N (from 1) for its pages, or ?show=prior for the
+// agreed prior; anything else is refused in words naming the field.
+func roomQuery(r *http.Request) (show string, page int, msg string) {
 	q := r.URL.Query()
 	if name, n := repeatedField(q); name != "" {
-		return false, 0, fmt.Sprintf("The room view's address could not be read: %s: takes one value, got %d.", input.Clip(name, 40), n)
+		return "", 0, fmt.Sprintf("The room view's address could not be read: %s: takes one value, got %d.", input.Clip(name, 40), n)
 	}
 	for name := range q {
 		if name != "show" && name != "page" {
-			return false, 0, "The room view's address could not be read: " + input.Clip(name, 40) + ": not a setting of the room view (it takes show=reasons and page)."
+			return "", 0, "The room view's address could not be read: " + input.Clip(name, 40) + ": not a setting of the room view (it takes show=reasons, show=prior and page)."
 		}
 	}
 	page = 1
-	if q.Has("show") && q.Get("show") != "reasons" {
-		return false, 0, "The room view's address could not be read: show: takes only \"reasons\" (the reasons display)."
+	show = q.Get("show")
+	if q.Has("show") && show != "reasons" && show != "prior" {
+		return "", 0, "The room view's address could not be read: show: takes only \"reasons\" (the reasons display) or \"prior\" (the agreed prior)."
 	}
-	show = q.Get("show") == "reasons"
 	if q.Has("page") {
-		if !show {
-			return false, 0, "The room view's address could not be read: page: pages only the reasons display (show=reasons)."
+		if show != "reasons" {
+			return "", 0, "The room view's address could not be read: page: pages only the reasons display (show=reasons)."
 		}
 		n, err := strconv.Atoi(q.Get("page"))
 		if err != nil || n < 1 {
-			return false, 0, "The room view's address could not be read: page: takes a whole number from 1."
+			return "", 0, "The room view's address could not be read: page: takes a whole number from 1."
 		}
 		page = n
 	}

@@ -71,7 +71,8 @@ func TestRoomViewShowsTheFeedbackAnonymously(t *testing.T) {
 			t.Errorf("room %d says which questions are calibration questions", i)
 		}
 		// Its only links are room views: the neighbours', and its own
-		// reasons display (?show=reasons, a page of it).
+		// reasons display (?show=reasons, a page of it) and prior display
+		// (?show=prior).
 		for _, m := range regexp.MustCompile(`href="([^"]+)"`).FindAllStringSubmatch(body, -1) {
 			if !roomLink.MatchString(html.UnescapeString(m[1])) && !strings.HasPrefix(m[1], "/static/") && !strings.HasPrefix(m[1], "#") {
 				t.Errorf("room %d links to %s", i, m[1])
@@ -241,5 +242,5 @@ func TestReasonsInFeedbackAndWithheld(t *testing.T) {
 }
 
 // roomLink is an address the room view may link to: a question's room
-// view, or a page of its reasons display.
-var roomLink = regexp.MustCompile(`/q/\d+/room(\?show=reasons(&page=\d+)?)?$`)
+// view, a page of its reasons display, or its prior display.
+var roomLink = regexp.MustCompile(`/q/\d+/room(\?show=reasons(&page=\d+)?|\?show=prior)?$`)

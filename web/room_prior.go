@@ -1,0 +1,117 @@
+package web
+
+import (
+	"net/http"
+	"strconv"
+	"strings"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+	"github.com/parley-elicit/parley/web/chart"
+)
+
+// The agreed prior on the projector: once the facilitator records an
+// agreed prior for a question, the room view's header says so with a
+// link to the prior display, GET …/room?show=prior: the same room view
+// with the prior's curve, its median and 90% interval in words, and the
+// caution about priors that feed decisions that can hurt people. Like
+// the rest of the room view it follows changes live, so a prior recorded
+// or replaced in another tab reaches the projector.
+
+// roomPrior is the agreed prior as the prior display shows it.
+type roomPrior struct {
+	Panel chart.PanelView
+	Notes []string // the picture's notes, in the room's type
+	// Median, Low and High are the prior's 50%, 5% and 95% points, and
+	// Units the question's units ("" for none).
+	Median, Low, High string
+	Units             string
+	Quantity          string
+	// Made says in one sentence how and when it was agreed, with its
+	// Beta, for the statisticians in the room.
+	Made string
+}
+
+// priorLead stands in the header's first line of a question with an
+// agreed prior, before the link to the prior display.
+const priorLead = "a prior has been agreed:"
+
+// fillRoomPrior reads question q's agreed prior in force into v: the
+// link to the prior display, and on the display (show) the prior. A
+// retired question's prior is left out, as the report leaves it out; a
+// calibration question whose answers are held back shows none, since a
+// prior from the pool would show the panel's answers; and a prior taken
+// from one expert's answer alone is not shown (roomLeastAnswers).
+func (s *Server) fillRoomPrior(r *http.Request, q workshop.Question, v *roomView, room string, show bool) error {
+	v.ShowPrior = show
+	if show {
+		v.Prev, v.PrevWords, v.Back = room, "← back to the picture", room
+		v.PriorMissing = "No prior has been agreed for this question yet."
+	}
+	if q.Retired || q.PanelHeld() {
+		if show {
+			v.PriorMissing = v.Note
+		}
+		return nil
+	}
+	priors, err := s.store.AgreedPriors(r.Context(), q.WorkshopID)
+	if err != nil {
+		return err
+	}
+	var a *workshop.AgreedPrior
+	for i := range priors {
+		if priors[i].QuestionID == q.ID {
+			a = &priors[i]
+		}
+	}
+	if a == nil {
+		return nil
+	}
+	if !show {
+		v.PriorLink = room + "?show=prior"
+		return nil
+	}
+	if a.Source == workshop.PriorFromPool && len(a.Pooled) > 0 && len(a.Pooled) < roomLeastAnswers {
+		v.PriorMissing = "The agreed prior was taken from one expert's answer alone, so the room is not shown it: " +
+			"the room is shown no expert's answer on its own."
+		return nil
+	}
+	d := a.Dist
+	ps := pointsIn(d.Lower, d.Upper, d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95))
+	lower, upper := fvBounds(d.Lower, d.Upper)
+	made := "Agreed in round " + strconv.Itoa(a.Round)
+	if a.RoundOpen {
+		made += ", while the round was still open,"
+	}
+	made += " as Beta(α = " + sv(d.Alpha) + ", β = " + sv(d.Beta.Beta) + ") on [" + lower + ", " + upper + "], " + roomPriorOrigin(a.Source) + "."
+	p := &roomPrior{Median: ps[1], Low: ps[0], High: ps[2], Units: strings.TrimSpace(q.Units), Quantity: q.Quantity, Made: made}
+	p.Panel = chart.PanelView{ID: "room-prior-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: d.Lower, Upper: d.Upper,
+		Curves: []chart.Curve{{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: d}}, Room: true}
+	if q.Frozen() && q.TrueValue != nil {
+		t := *q.TrueValue
+		p.Panel.Truth = &t
+	}
+	p.Notes = chart.PanelNotes(p.Panel)
+	v.Prior, v.PriorMissing = p, ""
+	return nil
+}
+
+// roomPriorOrigin says where an agreed prior came from, in the room's
+// words.
+func roomPriorOrigin(s workshop.PriorSource) string {
+	switch s {
+	case workshop.PriorFromConsensus:
+		return "fitted to a judgement the panel agreed in discussion"
+	case workshop.PriorFromConstruction:
+		return "made by a quick construction"
+	}
+	return "the single Beta closest to the pool of the experts' answers"
+}
+
+// withUnits writes a value of the question with its units, as the room
+// reads a true value.
+func (p roomPrior) withUnits(v string) string {
+	if p.Units == "" {
+		return v
+	}
+	return v + " (" + p.Units + ")"
+}
