@@ -58,11 +58,14 @@ type medianDrawing struct {
 	TickY                  string
 	BoxX, BoxW, BoxY, BoxH string
 	MidX                   string
-	Dots                   []stripDot
-	Truth                  *stripDot
-	NoBox                  bool   // too few medians for quartiles (minBoxMedians)
-	TruthAnchor            string // the label's text-anchor: start, middle or end
-	TruthY1, TruthY2       string
+	// MidSegs are the pieces of the upright mark at the middle expert's
+	// median: it stops short of the letters that stand on it (midSegments).
+	MidSegs          []midSegment
+	Dots             []stripDot
+	Truth            *stripDot
+	NoBox            bool   // too few medians for quartiles (minBoxMedians)
+	TruthAnchor      string // the label's text-anchor: start, middle or end
+	TruthY1, TruthY2 string
 	// The legend under the axis names the upright mark at the middle
 	// expert's median, which the projector otherwise left unexplained.
 	LegendX, LegendY           string
@@ -268,6 +271,7 @@ func medianDrawingFor(lay layout, v MedianStripView, sp elicit.MedianSpread, lo,
 		d.Dots = append(d.Dots, stripDot{X: coord(f.px(med)), Y: coord(y), LabelY: coord(y - 10),
 			Label: strings.TrimPrefix(v.Labels[i], "Expert "), Value: value(med)})
 	}
+	d.MidSegs = midSegments(lay, v, rows, pitch, axisY, boxTop, f.px(sp.Median), f.px)
 	if v.Truth != nil {
 		tx := f.px(*v.Truth)
 		label := "true value " + value(*v.Truth)
@@ -333,4 +337,46 @@ func stripRows(lay layout, labels []string, medians []float64, px func(float64) 
 		rows[i] = r
 	}
 	return rows, len(rowEnd)
+}
+
+// midSegment is a piece of the median strip's upright mark, from Y1 down
+// to Y2.
+type midSegment struct{ Y1, Y2 string }
+
+// midSegments is the upright mark at the middle expert's median (at
+// midX) from top to axisY, without the stretches where a letter stands
+// across it: the middle expert's own letter always does, and the mark
+// ran through it, and through the letters of medians equal or close to
+// it, on every screen. The gap runs from a unit above a capital's height
+// (0.76 of the letters' largest size) to the dot, which is drawn over the
+// mark.
+func midSegments(lay layout, v MedianStripView, rows []int, pitch, axisY, top, midX float64, px func(float64) float64) []midSegment {
+	size := stripLabelPx(lay)
+	type gap struct{ from, to float64 }
+	var gaps []gap
+	for i, med := range v.Medians {
+		half := labelEm(strings.TrimPrefix(v.Labels[i], "Expert "), true) * size / 2
+		if math.Abs(px(med)-midX) > half+1.5 { // the mark is 3 units wide
+			continue
+		}
+		baseline := axisY - 12 - float64(rows[i])*pitch - 10
+		gaps = append(gaps, gap{baseline - 0.76*size - 1, baseline + 4})
+	}
+	for i := 1; i < len(gaps); i++ {
+		for j := i; j > 0 && gaps[j].from < gaps[j-1].from; j-- {
+			gaps[j], gaps[j-1] = gaps[j-1], gaps[j]
+		}
+	}
+	var segs []midSegment
+	y := top
+	for _, g := range gaps {
+		if g.from > y {
+			segs = append(segs, midSegment{coord(y), coord(g.from)})
+		}
+		y = math.Max(y, g.to)
+	}
+	if y < axisY {
+		segs = append(segs, midSegment{coord(y), coord(axisY)})
+	}
+	return segs
 }
