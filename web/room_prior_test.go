@@ -128,6 +128,19 @@ func TestRoomShowsTheAgreedPrior(t *testing.T) {
 	if body := words(read(roomPath(ws.ID, qs[2].ID) + "?show=prior")); strings.Contains(body, "Beta(") || !strings.Contains(body, "taken from one expert's answer alone") {
 		t.Error("the prior display shows a prior taken from one expert's answer")
 	}
+	// Round 1 closed: the room shows the answers as it closed, and says
+	// so; the prior display shows the prior, not the answers, and does
+	// not say it shows them.
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d", r.StatusCode)
+	}
+	const shown = "Shown: every expert's answer as round 1 closed"
+	if !strings.Contains(words(read(room)), shown) {
+		t.Errorf("the room of question 1 does not say %q", shown)
+	}
+	if strings.Contains(words(read(room+"?show=prior")), shown) {
+		t.Errorf("the prior display says %q", shown)
+	}
 	// The address: show=prior takes no page, and a display the room view
 	// does not have is refused naming both it has.
 	for p, want := range map[string]string{
