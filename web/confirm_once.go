@@ -26,6 +26,32 @@ const doneSaved = "saved"
 // overview, which names what the last sheet saved.
 const doneSheetSaved = "sheet"
 
+// sheetSavedConfirmation is doneSheetSaved with the number of the
+// sheet's rows left out as unchanged, "sheet-3", which the overview says
+// beside what was saved (the decision log names the rows saved only).
+func sheetSavedConfirmation(unchanged int) string {
+	if unchanged == 0 {
+		return doneSheetSaved
+	}
+	return doneSheetSaved + "-" + strconv.Itoa(unchanged)
+}
+
+// sheetSavedOf reads a confirmation of sheetSavedConfirmation back: the
+// number of rows left out as unchanged, and whether v is one. A value of
+// any other shape is none; a count a client forged can at most misstate
+// a count on its own page.
+func sheetSavedOf(v string) (unchanged int, ok bool) {
+	if v == doneSheetSaved {
+		return 0, true
+	}
+	digits, ok := strings.CutPrefix(v, doneSheetSaved+"-")
+	if !ok || digits == "" || len(digits) > 5 || strings.Trim(digits, "0123456789") != "" {
+		return 0, false
+	}
+	n, err := strconv.Atoi(digits)
+	return n, err == nil && n > 0
+}
+
 // doneDeleted confirms a workshop deleted, on the workshop list. Its
 // cookie names the workshop: doneDeleted and the workshop's id
 // (deletedConfirmation), which takeDeleted reads back.

@@ -40,9 +40,13 @@ type keptSheet struct {
 type sheetView struct {
 	Workshop workshop.Workshop
 	Form     *Form
-	Rows     []answersheet.Row
-	Key      string
-	Channel  workshop.Channel
+	// Rows are the rows the confirmation saves; Unchanged the rows that
+	// repeat their expert's current answer, which it leaves out
+	// (answersheet.Against).
+	Rows      []answersheet.Row
+	Unchanged []unchangedRow
+	Key       string
+	Channel   workshop.Channel
 	// Questions are the workshop's questions that take answers, whose
 	// columns the upload page lists.
 	Questions []workshop.Question
@@ -54,6 +58,13 @@ type sheetView struct {
 	Meanwhile []string
 	// file is the sheet the preview keeps for its confirmation.
 	file answersheet.File
+}
+
+// unchangedRow is a row of a sheet that repeats its expert's current
+// answer, and that answer.
+type unchangedRow struct {
+	Row     answersheet.Row
+	Current workshop.Revision
 }
 
 // sheetRefusedSummary follows a refusal of the sheet's own content (a
@@ -280,14 +291,20 @@ func (s *Server) currentAnswers(r *http.Request, ws workshop.Workshop) (map[work
 }
 
 // showPreview keeps the sheet of v for its confirmation and shows its
-// rows, each with the current answer it would follow (cur).
+// rows to save, each with the current answer it would follow (cur), and
+// its unchanged rows with the answer each repeats.
 func (s *Server) showPreview(w http.ResponseWriter, r *http.Request, status int, v sheetView, rows []answersheet.Row, cur map[workshop.Key]workshop.Revision) {
 	follows := make(map[workshop.Key]int64, len(rows))
-	for i, row := range rows {
+	for _, row := range rows {
 		k := workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}
-		rv, ok := cur[k]
-		follows[k] = rv.ID
-		if ok {
+		follows[k] = cur[k].ID
+	}
+	changes := answersheet.Against(rows, cur, v.Workshop.Round)
+	for _, row := range changes.Unchanged {
+		v.Unchanged = append(v.Unchanged, unchangedRow{Row: row, Current: cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]})
+	}
+	for i, row := range changes.Save {
+		if rv, ok := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]; ok {
 			if v.Replaces == nil {
 				v.Replaces = map[int]workshop.Revision{}
 			}
@@ -299,7 +316,7 @@ func (s *Server) showPreview(w http.ResponseWriter, r *http.Request, status int,
 		s.fail(w, r, err)
 		return
 	}
-	v.Rows, v.Key = rows, key
+	v.Rows, v.Key = changes.Save, key
 	s.renderSheet(w, r, status, v)
 }
 
@@ -349,8 +366,7 @@ func failSheet(f *Form, err error) {
 }
 
 // checkSheet reads text as an answer sheet of ws, refusing it at once
-// when the round is closed or a row repeats a current answer
-// (answersheet.SameAsCurrent).
+// when the round is closed.
 func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) ([]answersheet.Row, error) {
 	qs, err := s.store.Questions(r.Context(), ws.ID)
 	if err != nil {
@@ -363,12 +379,6 @@ func (s *Server) checkSheet(r *http.Request, ws workshop.Workshop, text string) 
 	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
 	if err == nil && !ws.Open {
 		err = answersheet.RoundClosed(ws.Round, rows)
-	}
-	if err == nil {
-		var cur map[workshop.Key]workshop.Revision
-		if cur, err = s.currentAnswers(r, ws); err == nil {
-			err = answersheet.SameAsCurrent(rows, cur, ws.Round)
-		}
 	}
 	return rows, err
 }
@@ -415,23 +425,33 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 			s.showPreview(w, r, http.StatusConflict, v, rows, cur)
 			return
 		}
-		err = SaveSheet(r.Context(), s.store, ws, rows, sh.channel, sh.file)
-	}
-	if err != nil {
-		s.sheets.untake(key)
-		switch {
-		case s.notSaved(r, f, err):
-		case !isInputError(err):
-			s.fail(w, r, err)
+		changes := answersheet.Against(rows, cur, ws.Round)
+		if len(changes.Save) == 0 {
+			// Only a confirmation sent by hand comes here: a preview
+			// with nothing to save offers none. Nothing is saved; the
+			// preview says why.
+			s.sheets.untake(key)
+			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file}
+			s.showPreview(w, r, http.StatusOK, v, rows, cur)
 			return
-		default:
-			f.Fail(err, nil)
 		}
-		s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
-		return
+		if err = SaveSheet(r.Context(), s.store, ws, changes.Save, sh.channel, sh.file); err == nil {
+			s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(len(changes.Unchanged)))
+			http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
+			return
+		}
 	}
-	s.confirmOnce(w, r, workshopPath(ws.ID), doneSheetSaved)
-	http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
+	// Refused, when read again or by the store: nothing was saved.
+	s.sheets.untake(key)
+	switch {
+	case s.notSaved(r, f, err):
+	case !isInputError(err):
+		s.fail(w, r, err)
+		return
+	default:
+		f.Fail(err, nil)
+	}
+	s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
 }
 
 func channelNames() []string {

@@ -33,6 +33,9 @@ type workshopView struct {
 	// SheetSaved is set right after an answer sheet is saved: the decision
 	// log's words for it, so the facilitator sees what was saved.
 	SheetSaved string
+	// SheetUnchanged counts the sheet's rows left out because they
+	// repeated their expert's current answer.
+	SheetUnchanged int
 }
 
 // reopenSent is whether the round form sent was the reopening's: its
@@ -77,7 +80,12 @@ func (s *Server) workshopOverview(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := workshopView{}
-	if s.takeConfirmation(w, r, workshopPath(ws.ID), doneSheetSaved) == doneSheetSaved {
+	saved := false
+	s.takeConfirmationIf(w, r, workshopPath(ws.ID), func(c string) bool {
+		v.SheetUnchanged, saved = sheetSavedOf(c)
+		return saved
+	})
+	if saved {
 		evs, err := s.store.Events(r.Context(), ws.ID)
 		if err != nil {
 			s.fail(w, r, err)

@@ -6,48 +6,139 @@ import (
 	"mime/multipart"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strings"
 	"testing"
 )
 
-// The same sheet uploaded again in its round, or a second preview of it
-// confirmed after the first, is refused naming the rows that repeat
-// their experts' current answers, and saves nothing: it had saved every
-// row a second time, a judgement given once recorded as given twice.
-func TestSheetUploadedAgainIsRefused(t *testing.T) {
-	g := newSheetRig(t)
-	sheet := "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.06,0.15,Logs (invented).\nBruno Ferrante,Q1,1%,4%,10%,\n"
-	first := g.previewSheet(t, "monday.csv", sheet, "paper_form")
-	second := g.previewSheet(t, "monday.csv", sheet, "paper_form") // another tab
-	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {first}}); r.StatusCode != http.StatusSeeOther {
-		t.Fatalf("confirm: %d", r.StatusCode)
-	}
-	before := len(g.revisions(t))
-	refused := func(what string, r *http.Response, body string) {
-		t.Helper()
-		text := html.UnescapeString(body)
-		if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(text, "row 2, column question") ||
-			!strings.Contains(text, "repeats the expert's current answer of this round") ||
-			!strings.Contains(text, "Ada Quell's answer to Q1 is already this one: you entered it at ") ||
-			!strings.Contains(text, "row 3 repeats a current answer too") {
-			t.Errorf("%s: %d, %s", what, r.StatusCode, text)
-		}
-		if n := len(g.revisions(t)); n != before {
-			t.Fatalf("%s saved %d revisions", what, n-before)
-		}
-	}
-	r, body := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {second}})
-	refused("the second preview confirmed", r, body)
-
+// postSheet uploads a sheet and returns the page as its text.
+func (g *sheetRig) postSheet(t *testing.T, name, text string) (*http.Response, string) {
+	t.Helper()
 	var buf bytes.Buffer
 	mw := multipart.NewWriter(&buf)
-	fw, _ := mw.CreateFormFile("file", "monday.csv")
-	fw.Write([]byte(sheet))
+	fw, _ := mw.CreateFormFile("file", name)
+	fw.Write([]byte(text))
 	mw.WriteField("channel", "paper_form")
 	mw.Close()
 	req, _ := http.NewRequest(http.MethodPost, g.h.ts.URL+sheetPath(g.ws.ID), &buf)
 	req.Header.Set("Content-Type", mw.FormDataContentType())
 	req.Header.Set("Origin", g.h.ts.URL)
-	r, body = g.h.do(req)
-	refused("the sheet uploaded again", r, body)
+	r, body := g.h.do(req)
+	return r, html.UnescapeString(body)
+}
+
+// tableRows are the row numbers in the first cell of each body row of
+// the table with the given id.
+func tableRows(t *testing.T, body, id string) []string {
+	t.Helper()
+	i := strings.Index(body, `id="`+id+`"`)
+	if i < 0 {
+		return nil
+	}
+	table := body[i:]
+	table = table[:strings.Index(table, "</table>")]
+	var out []string
+	for _, m := range regexp.MustCompile(`<td class="num" data-label="Row">(\d+)</td>`).FindAllStringSubmatch(table, -1) {
+		out = append(out, m[1])
+	}
+	return out
+}
+
+// A sheet imported again after one row was put right saves that row
+// alone: the rows that repeat their expert's current answer of the
+// round, values and reasoning alike, are listed as unchanged in the
+// preview and left out, and the overview says how many. The sheet was
+// refused as a whole, naming every such row, so the facilitator had to
+// take them out first. A sheet whose every row is unchanged offers
+// nothing to save, and a confirmation sent by hand saves nothing.
+func TestSheetImportedAgainSavesWhatChanged(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.06,0.15,Logs (invented).\nBruno Ferrante,Q1,1%,4%,1%,\nChiara Osei,Q1,0.01,0.03,0.08,\n"
+	if r, body := g.postSheet(t, "monday.csv", sheet); r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 3, column q95") {
+		t.Fatalf("the typo: %d %s", r.StatusCode, body)
+	}
+	// The facilitator leaves the typo's row out, saves the others, then
+	// puts the typo right and imports the whole sheet again.
+	g.uploadSheet(t, "monday.csv", strings.Replace(sheet, "Bruno Ferrante,Q1,1%,4%,1%,\n", "", 1), "paper_form")
+	before := len(g.revisions(t))
+	fixed := strings.Replace(sheet, "1%,4%,1%", "1%,4%,10%", 1)
+	r, body := g.postSheet(t, "monday.csv", fixed)
+	if r.StatusCode != http.StatusOK {
+		t.Fatalf("the sheet put right: %d %s", r.StatusCode, body)
+	}
+	if got := tableRows(t, body, "sheet-rows"); strings.Join(got, " ") != "3" {
+		t.Errorf("rows to save %v, want row 3 alone", got)
+	}
+	if got := tableRows(t, body, "sheet-unchanged"); strings.Join(got, " ") != "2 4" {
+		t.Errorf("unchanged rows %v, want 2 and 4", got)
+	}
+	if !strings.Contains(body, "This judgement will be saved in round 1") || !strings.Contains(body, "2 rows unchanged, not saved again") ||
+		!regexp.MustCompile(`your entry of <span class="when">\d{4}-\d\d-\d\d \d\d:\d\d UTC</span>`).MatchString(body) ||
+		!strings.Contains(body, "Save this judgement") {
+		t.Errorf("the preview does not say what it saves and leaves out:\n%s", body)
+	}
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if key == nil {
+		t.Fatal("no key")
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	revs := g.revisions(t)
+	if len(revs) != before+1 || revs[len(revs)-1].ExpertID != g.experts[1].ID || revs[len(revs)-1].Answer.Values[2] != 0.1 {
+		t.Fatalf("saved %d revisions, the last %+v; want Bruno Ferrante's alone", len(revs)-before, revs[len(revs)-1])
+	}
+	_, overview := g.h.get(workshopPath(g.ws.ID))
+	if !strings.Contains(html.UnescapeString(overview), "2 rows repeated their experts' current answers and were not saved again.") {
+		t.Errorf("the overview does not say what was left out:\n%s", overview)
+	}
+
+	// Every row unchanged: nothing to save, said as such.
+	r, body = g.postSheet(t, "monday.csv", fixed)
+	if r.StatusCode != http.StatusOK || !strings.Contains(body, "Nothing to save:</strong> all 3 rows of the sheet repeat their experts' current answers of round 1") ||
+		strings.Contains(body, "Save these judgements") || strings.Contains(body, `id="sheet-rows"`) {
+		t.Fatalf("every row unchanged: %d %s", r.StatusCode, body)
+	}
+	if got := tableRows(t, body, "sheet-unchanged"); strings.Join(got, " ") != "2 3 4" {
+		t.Errorf("unchanged rows %v, want 2, 3 and 4", got)
+	}
+	key = regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if key == nil {
+		t.Fatal("no key")
+	}
+	if r, body := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusOK || !strings.Contains(body, "Nothing to save") {
+		t.Errorf("a confirmation by hand of nothing: %d %s", r.StatusCode, body)
+	}
+	if n := len(g.revisions(t)); n != before+1 {
+		t.Fatalf("a sheet of unchanged rows saved %d revisions", n-before-1)
+	}
+
+	// What is truly wrong is still refused, unchanged rows or not.
+	r, body = g.postSheet(t, "monday.csv", fixed+"Ada Quell,Q2,,,,\n")
+	if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "row 5, column lowest") {
+		t.Errorf("a bad row beside unchanged ones: %d %s", r.StatusCode, body)
+	}
+}
+
+// A second preview of a sheet (another tab) confirmed after the first
+// saves nothing: the answers it would follow were saved since, and it
+// shows the preview again as it now reads, every row unchanged. It had
+// saved every row a second time, a judgement given once recorded twice.
+func TestSheetConfirmedFromASecondPreviewSavesNothing(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.06,0.15,Logs (invented).\nBruno Ferrante,Q1,1%,4%,10%,\n"
+	first := g.previewSheet(t, "monday.csv", sheet, "paper_form")
+	second := g.previewSheet(t, "monday.csv", sheet, "paper_form")
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {first}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	before := len(g.revisions(t))
+	r, body := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {second}})
+	text := html.UnescapeString(body)
+	if r.StatusCode != http.StatusConflict || !strings.Contains(text, "Nothing was saved") || !strings.Contains(text, "Nothing to save:</strong> all 2 rows") {
+		t.Errorf("the second preview confirmed: %d %s", r.StatusCode, text)
+	}
+	if n := len(g.revisions(t)); n != before {
+		t.Fatalf("the second preview saved %d revisions", n-before)
+	}
 }

@@ -18,13 +18,20 @@ import (
 )
 
 func init() {
-	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run, --channel)", runImportAnswers)
+	command("import-answers", "save experts' judgements from a CSV answer sheet, entered by the facilitator (--db, --workshop, --in, --dry-run, --channel, --signal-unchanged)", runImportAnswers)
 }
+
+// exitUnchanged is import-answers' status, under --signal-unchanged, for
+// a sheet that saves nothing because every row repeats its expert's
+// current answer: not a failure (1) nor bad input (2).
+const exitUnchanged = 3
 
 // runImportAnswers reads an answer sheet (answersheet.Read) against
 // the workshop's questions and panel and saves every row as a revision
 // the facilitator entered, all in one transaction, or none: any bad row
-// is refused with exit status 2 naming its row, column and rule.
+// is refused with exit status 2 naming its row, column and rule. Rows
+// that repeat their expert's current answer of the round are listed as
+// unchanged and not saved again (answersheet.Against).
 func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	fs := newFlags("import-answers", stderr)
 	dbPath := fs.String("db", "", "database `file`")
@@ -32,6 +39,7 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	in := fs.String("in", "", "answer sheet `file` (CSV), or - for standard input")
 	dryRun := fs.Bool("dry-run", false, "check the sheet and print what would be saved, without saving")
 	channel := fs.String("channel", string(workshop.ChannelFile), "how the judgements reached you: in_person, phone, paper_form, message or file")
+	signalUnchanged := fs.Bool("signal-unchanged", false, "exit 3, not 0, when every row repeats its expert's current answer, so nothing is saved (for a script that reads the exit status alone)")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
 	}
@@ -126,25 +134,50 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return fail(stderr, "import-answers", err)
 	}
 	cur := workshop.Current(revs, nil)
-	if err := answersheet.SameAsCurrent(rows, cur, ws.Round); err != nil {
-		return fail(stderr, "import-answers", err)
-	}
+	changes := answersheet.Against(rows, cur, ws.Round)
 	// The listing is printed once the rows are saved (or, with
 	// --dry-run, checked): printed before a save that was then refused,
 	// it listed rows as if saved above the refusal.
 	var listing strings.Builder
+	unchanged := map[int]bool{}
+	for _, row := range changes.Unchanged {
+		unchanged[row.Line] = true
+	}
 	for _, row := range rows {
+		rv := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]
+		if unchanged[row.Line] {
+			fmt.Fprintf(&listing, "row %d: %s, Q%d: unchanged, the same as %s, not saved again\n", row.Line, row.Expert.Name, row.Question.Position, currentNote(row.Expert.Name, rv))
+			continue
+		}
 		fmt.Fprintf(&listing, "row %d: %s, Q%d: Beta(%s, %s)%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
 			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit),
-			followsNote(row.Expert.Name, cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]))
+			followsNote(row.Expert.Name, rv))
+	}
+	if len(changes.Save) == 0 {
+		// Not an error: the workshop holds the sheet already. Said
+		// plainly, and by the exit status when asked.
+		every := "the sheet's one row repeats its expert's current answer"
+		if len(rows) > 1 {
+			every = fmt.Sprintf("all %d rows repeat their experts' current answers", len(rows))
+		}
+		fmt.Fprintf(&listing, "%s nothing: %s of round %d of workshop %d\n", verb, every, ws.Round, wid)
+		io.WriteString(stdout, listing.String())
+		if *signalUnchanged {
+			return exitUnchanged
+		}
+		return exitOK
 	}
 	if !*dryRun {
-		err := db.SaveImportedRevisions(ctx, ws.ID, answersheet.Revisions(rows, ch), answersheet.Import(rows, ch, file))
+		err := db.SaveImportedRevisions(ctx, ws.ID, answersheet.Revisions(changes.Save, ch), answersheet.Import(changes.Save, ch, file))
 		if err != nil {
-			return fail(stderr, "import-answers", answersheet.RefusalAtRow(err, ws.Round, rows))
+			return fail(stderr, "import-answers", answersheet.RefusalAtRow(err, ws.Round, changes.Save))
 		}
 	}
-	fmt.Fprintf(&listing, "%s %s in round %d of workshop %d, entered by the facilitator (%s)\n", verb, countOf(len(rows), "judgement", "judgements"), ws.Round, wid, ch)
+	fmt.Fprintf(&listing, "%s %s in round %d of workshop %d, entered by the facilitator (%s)", verb, countOf(len(changes.Save), "judgement", "judgements"), ws.Round, wid, ch)
+	if n := len(changes.Unchanged); n > 0 {
+		fmt.Fprintf(&listing, "; %s unchanged, not saved again", countOf(n, "row", "rows"))
+	}
+	listing.WriteString("\n")
 	io.WriteString(stdout, listing.String())
 	return exitOK
 }
@@ -174,4 +207,14 @@ func followsNote(name string, rv workshop.Revision) string {
 		return ""
 	}
 	return fmt.Sprintf(" — follows %s's own answer of %s (round %d)", name, rv.At.UTC().Format("2006-01-02 15:04 UTC"), rv.Round)
+}
+
+// currentNote names the current answer an unchanged row repeats: who
+// saved it, and when.
+func currentNote(name string, rv workshop.Revision) string {
+	when := rv.At.UTC().Format("2006-01-02 15:04 UTC")
+	if rv.EnteredBy == workshop.ByFacilitator {
+		return "your entry of " + when
+	}
+	return name + "'s own answer of " + when
 }

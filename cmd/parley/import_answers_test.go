@@ -233,7 +233,7 @@ func TestImportAnswersSaysWhatARowFollows(t *testing.T) {
 	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
 		t.Fatalf("import: %d %q %q", code, out, errOut)
 	}
-	// The same row again would save nothing new (TestImportAnswersRefusesASheetSavedAlready).
+	// A row put right follows the facilitator's entry, which it does not name (TestImportAnswersSkipsUnchangedRows).
 	again := writeSheet(t, "expert,question,q05,q50,q95\nInes,Q2,0.1,0.3,0.65\n")
 	if code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", again, "--dry-run"); code != 0 || strings.Contains(out, "follows") {
 		t.Fatalf("after the facilitator's entry: %d %q %q", code, out, errOut)
@@ -259,41 +259,74 @@ func TestImportAnswersRefusedAtTheSavePrintsNoRows(t *testing.T) {
 	}
 }
 
-// The same sheet imported a second time in its round (the command run
-// again) is refused, exit 2, naming the first row that repeats its
-// expert's current answer and the others, and saves nothing; it had
-// saved every row again, a judgement given once recorded twice. A row
-// whose reasoning differs is saved, and so is the same sheet in the next
-// round, where it is that round's judgement.
-func TestImportAnswersRefusesASheetSavedAlready(t *testing.T) {
+// A sheet imported again in its round after one row was put right saves
+// that row alone: the rows that repeat their expert's current answer,
+// values and reasoning alike, are listed as unchanged and counted, in the
+// dry run and the save. The sheet was refused as a whole, exit 2, naming
+// every such row. A sheet whose every row is unchanged saves nothing and
+// says so, exit 0, or 3 under --signal-unchanged; a bad row is still
+// refused beside unchanged ones. A row whose reasoning differs is saved,
+// and so is the same sheet in the next round, where it is that round's
+// judgement.
+func TestImportAnswersSkipsUnchangedRows(t *testing.T) {
 	path, ws, _ := cliWorkshop(t)
 	w := strconv.FormatInt(ws, 10)
-	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,Her notes (invented).\nJomo,2,20%,35%,50%,\n")
-	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
+	sheet := "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.6,Her notes (invented).\nJomo,2,20%,35%,50%,\n"
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, sheet)); code != 0 {
 		t.Fatalf("first import: %d %q %q", code, out, errOut)
 	}
 	before := len(revisionsIn(t, path, ws))
-	for _, dry := range []bool{true, false} {
-		args := []string{"import-answers", "--db", path, "--workshop", w, "--in", sheet}
-		if dry {
-			args = append(args, "--dry-run")
-		}
-		code, out, errOut := run(args...)
-		if code != 2 || out != "" || !strings.Contains(errOut, "row 2, column question: repeats the expert's current answer of this round") ||
-			!strings.Contains(errOut, "Ines's answer to Q2 is already this one: you entered it at ") || !strings.Contains(errOut, "row 3 repeats a current answer too") {
-			t.Fatalf("the same sheet again (dry run %v): %d %q %q", dry, code, out, errOut)
-		}
+	fixed := writeSheet(t, strings.Replace(sheet, "0.1,0.3,0.6", "0.1,0.3,0.65", 1))
+	unchangedJomo := regexp.MustCompile(`(?m)^row 3: Jomo, Q2: unchanged, the same as your entry of \d{4}-\d\d-\d\d \d\d:\d\d UTC, not saved again$`)
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", fixed, "--dry-run")
+	if code != 0 || !strings.Contains(out, "row 2: Ines, Q2: Beta(") || !unchangedJomo.MatchString(out) ||
+		!strings.HasSuffix(out, "would save 1 judgement in round 1 of workshop "+w+", entered by the facilitator (file); 1 row unchanged, not saved again\n") {
+		t.Fatalf("dry run of the sheet put right: %d %q %q", code, out, errOut)
 	}
 	if n := len(revisionsIn(t, path, ws)); n != before {
-		t.Fatalf("the refused sheet saved %d revisions", n-before)
+		t.Fatalf("--dry-run saved %d revisions", n-before)
 	}
-	// Jomo's values typed as proportions are the same judgement.
-	same := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n")
-	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", same); code != 2 || !strings.Contains(errOut, "Jomo's answer to Q2 is already this one") {
-		t.Fatalf("Jomo's answer in proportions: %d %q", code, errOut)
+	code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", fixed)
+	if code != 0 || !unchangedJomo.MatchString(out) || !strings.Contains(out, "saved 1 judgement in round 1 of workshop "+w+", entered by the facilitator (file); 1 row unchanged, not saved again\n") {
+		t.Fatalf("the sheet put right: %d %q %q", code, out, errOut)
+	}
+	revs := revisionsIn(t, path, ws)
+	if len(revs) != before+1 || revs[len(revs)-1].Answer.Values[2] != 0.65 {
+		t.Fatalf("saved %d revisions; want Ines's alone", len(revs)-before)
+	}
+	before = len(revs)
+
+	// Every row unchanged: nothing saved, said plainly; the exit status
+	// says it only when asked.
+	for _, c := range []struct {
+		args []string
+		code int
+		says string
+	}{
+		{nil, exitOK, "saved nothing: all 2 rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
+		{[]string{"--dry-run"}, exitOK, "would save nothing: all 2 rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
+		{[]string{"--signal-unchanged"}, exitUnchanged, "saved nothing: all 2 rows"},
+	} {
+		args := append([]string{"import-answers", "--db", path, "--workshop", w, "--in", fixed}, c.args...)
+		code, out, errOut := run(args...)
+		if code != c.code || !strings.Contains(out, c.says) || !unchangedJomo.MatchString(out) || errOut != "" {
+			t.Errorf("every row unchanged %v: %d %q %q", c.args, code, out, errOut)
+		}
+	}
+	one := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n") // in proportions: the same judgement
+	if code, out, _ := run("import-answers", "--db", path, "--workshop", w, "--in", one); code != 0 ||
+		!strings.HasSuffix(out, "saved nothing: the sheet's one row repeats its expert's current answer of round 1 of workshop "+w+"\n") {
+		t.Errorf("one row unchanged: %d %q", code, out)
+	}
+	bad := writeSheet(t, strings.Replace(sheet, "0.1,0.3,0.6", "0.1,0.3,0.65", 1)+"Ines,Q1,0.5,0.3,0.6,\n")
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", bad); code != exitBadInput || out != "" || !strings.Contains(errOut, "row 4, column ") {
+		t.Errorf("a bad row beside unchanged ones: %d %q %q", code, out, errOut)
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("unchanged or refused sheets saved %d revisions", n-before)
 	}
 	reason := writeSheet(t, "expert,question,q05,q50,q95,reason\nJomo,2,0.2,0.35,0.5,Said on the phone (invented).\n")
-	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", reason); code != 0 || !strings.Contains(out, "saved 1 judgement") {
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", reason); code != 0 || !strings.HasSuffix(out, "saved 1 judgement in round 1 of workshop "+w+", entered by the facilitator (file)\n") {
 		t.Fatalf("a new reasoning: %d %q %q", code, out, errOut)
 	}
 	db, err := store.Open(path)
@@ -308,7 +341,7 @@ func TestImportAnswersRefusesASheetSavedAlready(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 || !strings.Contains(out, "saved 2 judgements in round 2") {
+	if code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", fixed); code != 0 || !strings.Contains(out, "saved 2 judgements in round 2") {
 		t.Fatalf("the sheet in round 2: %d %q %q", code, out, errOut)
 	}
 }
