@@ -143,15 +143,22 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	for _, row := range changes.Unchanged {
 		unchanged[row.Line] = true
 	}
+	toSave := map[int]answersheet.Row{}
+	for _, row := range changes.Save {
+		toSave[row.Line] = row
+	}
 	for _, row := range rows {
 		rv := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]
+		if saved, ok := toSave[row.Line]; ok {
+			row = saved // with the reasoning it keeps
+		}
 		if unchanged[row.Line] {
 			fmt.Fprintf(&listing, "row %d: %s, Q%d: unchanged, the same as %s, not saved again\n", row.Line, row.Expert.Name, row.Question.Position, currentNote(row.Expert.Name, rv))
 			continue
 		}
-		fmt.Fprintf(&listing, "row %d: %s, Q%d: Beta(%s, %s)%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
+		fmt.Fprintf(&listing, "row %d: %s, Q%d: Beta(%s, %s)%s%s%s\n", row.Line, row.Expert.Name, row.Question.Position,
 			fmtG(row.Fit.Dist.Alpha), fmtG(row.Fit.Dist.Beta.Beta), warningsNote(row.Fit),
-			followsNote(row.Expert.Name, rv))
+			followsNote(row.Expert.Name, rv), reasonNote(row))
 	}
 	if len(changes.Save) == 0 {
 		// Not an error: the workshop holds the sheet already. Said
@@ -217,4 +224,16 @@ func currentNote(name string, rv workshop.Revision) string {
 		return "your entry of " + when
 	}
 	return name + "'s own answer of " + when
+}
+
+// reasonNote says what a row with an empty reason cell keeps of the
+// reasoning of its expert's current answer (answersheet.Against).
+func reasonNote(row answersheet.Row) string {
+	switch {
+	case row.ReasonCarried:
+		return " — the reason cell is empty: keeps the reasoning of " + row.Expert.Name + "'s current answer"
+	case row.ReasonNotCarried:
+		return " — the reason cell is empty, and the reasoning of " + row.Expert.Name + "'s current answer is withheld from the feedback, so it is not kept"
+	}
+	return ""
 }

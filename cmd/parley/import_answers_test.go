@@ -345,3 +345,50 @@ func TestImportAnswersSkipsUnchangedRows(t *testing.T) {
 		t.Fatalf("the sheet in round 2: %d %q %q", code, out, errOut)
 	}
 }
+
+// A row correcting an expert's answer of the open round, its reason cell
+// empty, keeps the reasoning of that answer, and the listing says so; it
+// saved the answer without it, lost from the feedback, the reasons page
+// and the room. A reasoning of an earlier round is not kept: the expert
+// has not restated it.
+func TestImportAnswersKeepsTheReasoning(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	w := strconv.FormatInt(ws, 10)
+	db, err := store.Open(path)
+	check(t, err)
+	ctx := context.Background()
+	qs, err := db.Questions(ctx, ws)
+	check(t, err)
+	es, err := db.Experts(ctx, ws)
+	check(t, err)
+	own := workshop.Revision{QuestionID: qs[1].ID, ExpertID: es[0].ID, Reason: "Ten seasons of counts (invented).",
+		Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.6}}}
+	check(t, db.SaveRevision(ctx, &own))
+	check(t, db.Close())
+	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.65,\n")
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet)
+	if code != 0 || !strings.Contains(out, " — the reason cell is empty: keeps the reasoning of Ines's current answer\n") {
+		t.Fatalf("the correction: %d %q %q", code, out, errOut)
+	}
+	revs := revisionsIn(t, path, ws)
+	if last := revs[len(revs)-1]; last.Reason != own.Reason || last.Answer.Values[2] != 0.65 {
+		t.Fatalf("saved %+v; want the reasoning kept", last)
+	}
+	db, err = store.Open(path)
+	check(t, err)
+	err = db.SetRound(ctx, ws, 1, false, "")
+	if err == nil {
+		err = db.SetRound(ctx, ws, 2, true, "The next round (invented).")
+	}
+	check(t, db.Close())
+	check(t, err)
+	next := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.7,\n")
+	code, out, errOut = run("import-answers", "--db", path, "--workshop", w, "--in", next)
+	if code != 0 || strings.Contains(out, "reasoning") {
+		t.Fatalf("round 2: %d %q %q", code, out, errOut)
+	}
+	revs = revisionsIn(t, path, ws)
+	if last := revs[len(revs)-1]; last.Reason != "" || last.Round != 2 {
+		t.Fatalf("round 2 saved %+v; want no reasoning", last)
+	}
+}

@@ -24,11 +24,26 @@ type Changes struct {
 // recorded a judgement given once as given twice. An answer of an earlier
 // round repeated is a judgement of this round and is saved; so is a row
 // whose reasoning differs.
+//
+// A row whose reason cell is empty keeps the reasoning saved with the
+// expert's current answer of the round, as the facilitator's entry form
+// does: a row correcting a mistyped value left the expert's current
+// answer, the one the feedback, the reasons page and the room show,
+// without its reasoning. A reasoning withheld from the feedback is not
+// carried (saved again, it would be shown), nor one of an earlier round,
+// which the expert has not restated.
 func Against(rows []Row, cur map[workshop.Key]workshop.Revision, round int) Changes {
 	var c Changes
 	for _, row := range rows {
 		rv, ok := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]
-		if ok && rv.Round == round && sameAnswer(rv.Answer, row.Answer) && strings.TrimSpace(rv.Reason) == row.Reason {
+		if ok && rv.Round == round && row.Reason == "" && strings.TrimSpace(rv.Reason) != "" {
+			if rv.ReasonWithheld {
+				row.ReasonNotCarried = true
+			} else {
+				row.Reason, row.ReasonCarried = rv.Reason, true
+			}
+		}
+		if ok && rv.Round == round && sameAnswer(rv.Answer, row.Answer) && strings.TrimSpace(rv.Reason) == strings.TrimSpace(row.Reason) {
 			c.Unchanged = append(c.Unchanged, row)
 			continue
 		}

@@ -75,6 +75,11 @@ type Row struct {
 	Answer   workshop.Answer
 	Reason   string
 	Fit      elicit.Fit
+	// ReasonCarried says the row's reason cell was empty and Reason is
+	// the reasoning saved with the expert's current answer of the open
+	// round, which the row keeps (Against); ReasonNotCarried that such
+	// reasoning is withheld from the feedback and is not kept.
+	ReasonCarried, ReasonNotCarried bool
 }
 
 // shownCell is a cell as a message quotes it, clipped to 40 characters.

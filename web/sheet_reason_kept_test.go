@@ -1,0 +1,68 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"regexp"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// A sheet row correcting an expert's answer of the open round, its reason
+// cell empty, keeps the reasoning saved with that answer, as the entry
+// form does: it left the expert's current answer, the one the feedback,
+// the reasons page and the room show, without its reasoning. A reasoning
+// withheld from the feedback is not kept (saved again, it would be
+// shown), and the preview says which row keeps what. The same sheet
+// imported again is then unchanged.
+func TestSheetCorrectionRowKeepsTheReasoning(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	own := func(e workshop.Expert, reason string) workshop.Revision {
+		rv := workshop.Revision{QuestionID: g.qs[0].ID, ExpertID: e.ID, Reason: reason,
+			Answer: workshop.Answer{Values: []float64{0.02, 0.06, 0.15}}}
+		if err := g.h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+		return rv
+	}
+	own(g.experts[0], "Inspection logs, 2019 to 2024 (invented).")
+	withheld := own(g.experts[1], "Names a contractor (invented).")
+	if err := g.h.db.SetReasonWithheld(ctx, withheld.ID, true, "It names a firm (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	sheet := "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.07,0.15,\nBruno Ferrante,Q1,0.02,0.07,0.15,\nChiara Osei,Q1,0.01,0.03,0.08,\n"
+	r, body := g.postSheet(t, "corrected.csv", sheet)
+	if r.StatusCode != http.StatusOK || !strings.Contains(body, "Inspection logs, 2019 to 2024 (invented). <span class=\"muted\">(the reason cell is empty: kept from their current answer)</span>") ||
+		!strings.Contains(body, "none: the reasoning of their current answer is withheld from the feedback, so it is not kept") {
+		t.Fatalf("the preview does not say what each row keeps: %d %s", r.StatusCode, body)
+	}
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if key == nil {
+		t.Fatal("no key")
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	cur := workshop.Current(g.revisions(t), nil)
+	for i, want := range []string{"Inspection logs, 2019 to 2024 (invented).", "", ""} {
+		rv := cur[workshop.Key{Question: g.qs[0].ID, Expert: g.experts[i].ID}]
+		if rv.EnteredBy != workshop.ByFacilitator || rv.Reason != want || rv.ReasonWithheld {
+			t.Errorf("%s's current answer: by %s, reason %q (withheld %v); want %q", g.experts[i].Name, rv.EnteredBy, rv.Reason, rv.ReasonWithheld, want)
+		}
+	}
+	if r, body := g.postSheet(t, "corrected.csv", sheet); r.StatusCode != http.StatusOK || !strings.Contains(body, "Nothing to save:</strong> all 3 rows") {
+		t.Errorf("the sheet again: %d %s", r.StatusCode, body)
+	}
+	// What the room shows once the round closes: the reasons page.
+	if r, body := g.h.post(workshopPath(g.ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close the round: %d %s", r.StatusCode, body)
+	}
+	if _, room := g.h.get(questionPath(g.ws.ID, g.qs[0].ID) + "/room?show=reasons"); !strings.Contains(room, "Inspection logs, 2019 to 2024 (invented).") ||
+		strings.Contains(room, "Names a contractor") {
+		t.Errorf("the room's reasons:\n%s", room)
+	}
+}
