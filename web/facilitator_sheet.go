@@ -5,6 +5,7 @@ import (
 	"fmt"
 	"io"
 	"net/http"
+	"strconv"
 	"strings"
 	"time"
 
@@ -82,6 +83,33 @@ func (v sheetView) refusedSummary() string {
 		}
 	}
 	return sheetRefusedSummary
+}
+
+// toSave says what the preview's confirmation saves, and that the
+// unchanged rows are listed apart.
+func (v sheetView) toSave() string {
+	s := "Nothing is saved yet. " + plural(len(v.Rows), "This judgement", "These "+strconv.Itoa(len(v.Rows))+" judgements") +
+		" will be saved in round " + strconv.Itoa(v.Workshop.Round) + ", as entered by you " + channelRecorded(v.Channel)
+	switch n := len(v.Unchanged); n {
+	case 0:
+		return s + ":"
+	case 1:
+		return s + "; one row repeats its expert's current answer and is listed below the button, not to be saved again."
+	default:
+		return s + "; " + strconv.Itoa(n) + " rows repeat their experts' current answers and are listed below the button, not to be saved again."
+	}
+}
+
+// everyRowRepeats says that every one of a sheet's n rows repeats its
+// expert's current answer: "both rows", not "all 2 rows".
+func everyRowRepeats(n int) string {
+	switch n {
+	case 1:
+		return "the sheet's one row repeats its expert's current answer"
+	case 2:
+		return "both rows of the sheet repeat their experts' current answers"
+	}
+	return "all " + strconv.Itoa(n) + " rows of the sheet repeat their experts' current answers"
 }
 
 // replacesOwn counts the rows that would follow an answer the expert

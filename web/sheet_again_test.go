@@ -77,6 +77,12 @@ func TestSheetImportedAgainSavesWhatChanged(t *testing.T) {
 		!strings.Contains(body, "Save this judgement") {
 		t.Errorf("the preview does not say what it saves and leaves out:\n%s", body)
 	}
+	// Listed below the save button, so that it does not read as saving
+	// them, and said above the rows to save.
+	if save, unchanged := strings.Index(body, "Save this judgement"), strings.Index(body, `id="sheet-unchanged-title"`); unchanged < save ||
+		!strings.Contains(body, "; 2 rows repeat their experts' current answers and are listed below the button, not to be saved again.") {
+		t.Errorf("the unchanged rows are not said first and listed below the save button:\n%s", body)
+	}
 	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
 	if key == nil {
 		t.Fatal("no key")
@@ -135,7 +141,7 @@ func TestSheetConfirmedFromASecondPreviewSavesNothing(t *testing.T) {
 	before := len(g.revisions(t))
 	r, body := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {second}})
 	text := html.UnescapeString(body)
-	if r.StatusCode != http.StatusConflict || !strings.Contains(text, "Nothing was saved") || !strings.Contains(text, "Nothing to save:</strong> all 2 rows") {
+	if r.StatusCode != http.StatusConflict || !strings.Contains(text, "Nothing was saved") || !strings.Contains(text, "Nothing to save:</strong> both rows of the sheet") {
 		t.Errorf("the second preview confirmed: %d %s", r.StatusCode, text)
 	}
 	if n := len(g.revisions(t)); n != before {

@@ -163,9 +163,12 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if len(changes.Save) == 0 {
 		// Not an error: the workshop holds the sheet already. Said
 		// plainly, and by the exit status when asked.
-		every := "the sheet's one row repeats its expert's current answer"
-		if len(rows) > 1 {
-			every = fmt.Sprintf("all %d rows repeat their experts' current answers", len(rows))
+		every := fmt.Sprintf("all %d rows repeat their experts' current answers", len(rows))
+		switch len(rows) {
+		case 1:
+			every = "the sheet's one row repeats its expert's current answer"
+		case 2:
+			every = "both rows repeat their experts' current answers"
 		}
 		fmt.Fprintf(&listing, "%s nothing: %s of round %d of workshop %d\n", verb, every, ws.Round, wid)
 		io.WriteString(stdout, listing.String())

@@ -303,9 +303,9 @@ func TestImportAnswersSkipsUnchangedRows(t *testing.T) {
 		code int
 		says string
 	}{
-		{nil, exitOK, "saved nothing: all 2 rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
-		{[]string{"--dry-run"}, exitOK, "would save nothing: all 2 rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
-		{[]string{"--signal-unchanged"}, exitUnchanged, "saved nothing: all 2 rows"},
+		{nil, exitOK, "saved nothing: both rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
+		{[]string{"--dry-run"}, exitOK, "would save nothing: both rows repeat their experts' current answers of round 1 of workshop " + w + "\n"},
+		{[]string{"--signal-unchanged"}, exitUnchanged, "saved nothing: both rows"},
 	} {
 		args := append([]string{"import-answers", "--db", path, "--workshop", w, "--in", fixed}, c.args...)
 		code, out, errOut := run(args...)
