@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"html"
 	"net/http"
 	"net/url"
 	"regexp"
@@ -64,5 +65,22 @@ func TestSheetCorrectionRowKeepsTheReasoning(t *testing.T) {
 	if _, room := g.h.get(questionPath(g.ws.ID, g.qs[0].ID) + "/room?show=reasons"); !strings.Contains(room, "Inspection logs, 2019 to 2024 (invented).") ||
 		strings.Contains(room, "Names a contractor") {
 		t.Errorf("the room's reasons:\n%s", room)
+	}
+}
+
+// The upload page says, before a sheet is chosen, that unchanged rows
+// are left out and that an empty reason cell in a correction keeps the
+// reasoning: a facilitator reading only the columns' help expected a
+// sheet imported again to be refused, and an empty cell to clear it.
+func TestSheetPageSaysWhatARowKeeps(t *testing.T) {
+	g := newSheetRig(t)
+	_, body := g.h.get(sheetPath(g.ws.ID))
+	for _, want := range []string{
+		"A row that repeats the expert's current answer of this round is left out, so a sheet can be imported again after a row is put right.",
+		"Left empty in a row that corrects the expert's answer of this round, the reasoning saved with that answer is kept.",
+	} {
+		if !strings.Contains(html.UnescapeString(body), want) {
+			t.Errorf("the upload page does not say %q", want)
+		}
 	}
 }
