@@ -35,6 +35,58 @@ type keptSheet struct {
 	// preview showed the row following (0 for none): the confirmation
 	// saves nothing when another has come since.
 	follows map[workshop.Key]int64
+	// reading is how the preview read each row against its expert's
+	// current answer (rowReading): a reasoning withheld from the feedback
+	// or shown again since changes it without a new answer.
+	reading map[workshop.Key]rowReading
+}
+
+// rowReading is how a row reads against its expert's current answer.
+type rowReading int
+
+const (
+	readToSave        rowReading = iota // saved as it stands
+	readToSaveCarried                   // saved, keeping the current answer's reasoning
+	readUnchanged                       // left out
+)
+
+// readings are how changes read each row.
+func readings(changes answersheet.Changes) map[workshop.Key]rowReading {
+	out := make(map[workshop.Key]rowReading, len(changes.Save)+len(changes.Unchanged))
+	for _, row := range changes.Save {
+		k := workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}
+		out[k] = readToSave
+		if row.ReasonCarried {
+			out[k] = readToSaveCarried
+		}
+	}
+	for _, row := range changes.Unchanged {
+		out[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}] = readUnchanged
+	}
+	return out
+}
+
+// reasoningMeanwhile says, for each row that reads otherwise than the
+// preview read it (was) with no new answer in between, that the
+// reasoning of its expert's current answer was withheld from the
+// feedback or shown again: confirmed, the row would have saved without
+// the reasoning the preview said it kept, or kept one the preview said
+// it would not.
+func reasoningMeanwhile(rows []answersheet.Row, was map[workshop.Key]rowReading, changes answersheet.Changes, cur map[workshop.Key]workshop.Revision) []string {
+	now := readings(changes)
+	var out []string
+	for _, row := range rows {
+		k := workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}
+		if now[k] == was[k] {
+			continue
+		}
+		what := "shown again in the feedback"
+		if cur[k].ReasonWithheld {
+			what = "withheld from the feedback"
+		}
+		out = append(out, fmt.Sprintf("Row %d: the reasoning of %s's current answer to Q%d was %s.", row.Line, row.Expert.Name, row.Question.Position, what))
+	}
+	return out
 }
 
 // sheetView is the upload page: the form, or the preview of a sheet.
@@ -57,6 +109,9 @@ type sheetView struct {
 	// Meanwhile says which answers were saved between the preview and
 	// its confirmation, which saved nothing and shows the preview again.
 	Meanwhile []string
+	// MeanwhileReasoning says Meanwhile names reasonings withheld or
+	// shown again, not answers saved.
+	MeanwhileReasoning bool
 	// file is the sheet the preview keeps for its confirmation.
 	file answersheet.File
 }
@@ -110,6 +165,14 @@ func everyRowRepeats(n int) string {
 		return "both rows of the sheet repeat their experts' current answers"
 	}
 	return "all " + strconv.Itoa(n) + " rows of the sheet repeat their experts' current answers"
+}
+
+// meanwhileHeading says why a confirmation saved nothing.
+func (v sheetView) meanwhileHeading() string {
+	if v.MeanwhileReasoning {
+		return "Nothing was saved: " + plural(len(v.Meanwhile), "a reasoning was", "reasonings were") + " withheld from the feedback or shown again since you checked the sheet."
+	}
+	return "Nothing was saved: " + plural(len(v.Meanwhile), "an answer was", "answers were") + " saved since you checked the sheet."
 }
 
 // replacesOwn counts the rows that would follow an answer the expert
@@ -339,7 +402,7 @@ func (s *Server) showPreview(w http.ResponseWriter, r *http.Request, status int,
 			v.Replaces[i] = rv
 		}
 	}
-	key, err := s.sheets.keep(keptSheet{workshop: v.Workshop.ID, file: v.file, channel: v.Channel, follows: follows}, s.now())
+	key, err := s.sheets.keep(keptSheet{workshop: v.Workshop.ID, file: v.file, channel: v.Channel, follows: follows, reading: readings(changes)}, s.now())
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -454,6 +517,12 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		changes := answersheet.Against(rows, cur, ws.Round)
+		if meanwhile := reasoningMeanwhile(rows, sh.reading, changes, cur); len(meanwhile) > 0 {
+			s.sheets.untake(key)
+			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file, Meanwhile: meanwhile, MeanwhileReasoning: true}
+			s.showPreview(w, r, http.StatusConflict, v, rows, cur)
+			return
+		}
 		if len(changes.Save) == 0 {
 			// Only a confirmation sent by hand comes here: a preview
 			// with nothing to save offers none. Nothing is saved; the

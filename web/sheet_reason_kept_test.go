@@ -84,3 +84,32 @@ func TestSheetPageSaysWhatARowKeeps(t *testing.T) {
 		}
 	}
 }
+
+// A reasoning withheld from the feedback between the preview and its
+// confirmation saves nothing and shows the preview again as it now
+// reads: confirmed, the row saved without the reasoning the preview
+// said it kept, with no new answer to tell it by.
+func TestSheetReasoningWithheldMeanwhileSavesNothing(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	rv := workshop.Revision{QuestionID: g.qs[0].ID, ExpertID: g.experts[0].ID, Reason: "Inspection logs (invented).",
+		Answer: workshop.Answer{Values: []float64{0.02, 0.06, 0.15}}}
+	if err := g.h.db.SaveRevision(ctx, &rv); err != nil {
+		t.Fatal(err)
+	}
+	key := g.previewSheet(t, "corrected.csv", "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.07,0.15,\n", "paper_form")
+	if err := g.h.db.SetReasonWithheld(ctx, rv.ID, true, "It names a firm (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	before := len(g.revisions(t))
+	r, body := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key}})
+	body = html.UnescapeString(body)
+	if r.StatusCode != http.StatusConflict || !strings.Contains(body, "Nothing was saved: a reasoning was withheld from the feedback or shown again since you checked the sheet.") ||
+		!strings.Contains(body, "Row 2: the reasoning of Ada Quell's current answer to Q1 was withheld from the feedback.") ||
+		!strings.Contains(body, "none: the reasoning of their current answer is withheld from the feedback, so it is not kept") {
+		t.Errorf("confirmed after the reasoning was withheld: %d %s", r.StatusCode, body)
+	}
+	if n := len(g.revisions(t)); n != before {
+		t.Fatalf("saved %d revisions", n-before)
+	}
+}
