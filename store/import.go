@@ -111,6 +111,11 @@ func (db *DB) ImportChecked(ctx context.Context, c record.Checked) (int64, error
 			if err := insertEventAs(ctx, tx, e, imp.id(e.ID)); err != nil {
 				return err
 			}
+			if e.Kind == workshop.EventRevisionWithdrawn {
+				if err := imp.withdrawal(e); err != nil {
+					return err
+				}
+			}
 		}
 		return nil
 	})
@@ -451,4 +456,19 @@ func remapDetail(detail string, experts, revisions map[int64]int64) string {
 		return detail
 	}
 	return string(b)
+}
+
+// withdrawal restores the withdrawal a revision_withdrawn event records
+// (its detail already remapped), with the event's reason and time: the
+// record's withdrawn flags are its events' (record.CheckDefinitions).
+func (imp importer) withdrawal(e workshop.Event) error {
+	var d workshop.Withdrawal
+	if err := json.Unmarshal([]byte(e.Detail), &d); err != nil {
+		return fmt.Errorf("event %d: %w", e.ID, err)
+	}
+	if _, err := imp.tx.ExecContext(imp.ctx, `INSERT INTO withdrawals (revision_id, reason, at) VALUES (?, ?, ?)`,
+		d.RevisionID, e.Reason, formatTime(e.At)); err != nil {
+		return fmt.Errorf("event %d: withdrawal of revision %d: %w", e.ID, d.RevisionID, err)
+	}
+	return nil
 }

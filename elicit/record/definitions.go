@@ -27,7 +27,8 @@ import (
 // keeps it out of the pools and the scores, is not the one its
 // question_retired and question_restored events give; or by a revision
 // whose reason_withheld is not the one its reason_withheld and
-// reason_released events give.
+// reason_released events give, or whose withdrawn is not the one its
+// revision_withdrawn event gives.
 const RuleDefinitionMismatch elicit.Rule = "must be what its events in the decision log give (it was changed without an event)"
 
 // RuleOldestFirst is broken by a record whose events or revisions are
@@ -54,7 +55,10 @@ const RuleOldestFirst elicit.Rule = "must be listed oldest first, in ascending i
 // revealed_through. A question named by a question_added event must be
 // retired as its question_retired and question_restored events give,
 // and every revision's reason withheld as the reason_withheld and
-// reason_released events naming it give (not withheld when none does).
+// reason_released events naming it give (not withheld when none does),
+// and withdrawn when a revision_withdrawn event names it, and only then.
+// A revision_withdrawn event must carry its reason and name a revision of
+// its question (RuleWithdrawalUnknown), at most once.
 // The chain makes the events tamper-evident; this binds the questions'
 // own rows, which are not chained, to them.
 func (r Record) CheckDefinitions() error {
@@ -90,7 +94,10 @@ func (r Record) CheckDefinitions() error {
 				"the record has %t, the expert's events give %t", e.Revoked, revoked)
 		}
 	}
-	retired, withheld := r.replayStates()
+	retired, withheld, withdrawn := r.replayStates()
+	if err := r.checkWithdrawals(); err != nil {
+		return err
+	}
 	for i, q := range r.Questions {
 		if want, ok := retired[q.ID]; ok && want != q.Retired {
 			return inputErr(fmt.Sprintf("questions[%d].retired", i), RuleDefinitionMismatch,
@@ -101,6 +108,10 @@ func (r Record) CheckDefinitions() error {
 		if want := withheld[rv.ID]; want != rv.ReasonWithheld {
 			return inputErr(fmt.Sprintf("revisions[%d].reason_withheld", i), RuleDefinitionMismatch,
 				"the record has %t, the events naming revision %d give %t", rv.ReasonWithheld, rv.ID, want)
+		}
+		if want := withdrawn[rv.ID]; want != rv.Withdrawn {
+			return inputErr(fmt.Sprintf("revisions[%d].withdrawn", i), RuleDefinitionMismatch,
+				"the record has %t, the events naming revision %d give %t", rv.Withdrawn, rv.ID, want)
 		}
 	}
 	for i, q := range r.Questions {
@@ -291,9 +302,10 @@ func (r Record) expertsAdded() map[int64]workshop.ExpertAdded {
 // question's retirement (only for a question a question_added event
 // names: added in use, retired by question_retired, brought back by
 // question_restored) and each revision's withheld reason (withheld by a
-// reason_withheld event naming it, shown again by reason_released).
-func (r Record) replayStates() (retired map[int64]bool, withheld map[int64]bool) {
-	retired, withheld = map[int64]bool{}, map[int64]bool{}
+// reason_withheld event naming it, shown again by reason_released), and
+// the revisions a revision_withdrawn event names.
+func (r Record) replayStates() (retired, withheld, withdrawn map[int64]bool) {
+	retired, withheld, withdrawn = map[int64]bool{}, map[int64]bool{}, map[int64]bool{}
 	for _, e := range r.Events {
 		switch e.Kind {
 		case workshop.EventQuestionAdded:
@@ -311,9 +323,49 @@ func (r Record) replayStates() (retired map[int64]bool, withheld map[int64]bool)
 			if json.Unmarshal([]byte(e.Detail), &d) == nil && d.RevisionID != 0 {
 				withheld[d.RevisionID] = e.Kind == workshop.EventReasonWithheld
 			}
+		case workshop.EventRevisionWithdrawn:
+			var d workshop.Withdrawal
+			if json.Unmarshal([]byte(e.Detail), &d) == nil && d.RevisionID != 0 {
+				withdrawn[d.RevisionID] = true
+			}
 		}
 	}
-	return retired, withheld
+	return retired, withheld, withdrawn
+}
+
+// RuleWithdrawalUnknown is broken by a revision_withdrawn event without
+// its reason, or naming no revision of its question, or one another such
+// event names already: Parley records a withdrawal once, with its reason,
+// of a revision it holds.
+const RuleWithdrawalUnknown elicit.Rule = "must carry its reason and name, once, a revision of its question"
+
+// checkWithdrawals checks each revision_withdrawn event, in the log's
+// order (RuleWithdrawalUnknown, at events[i]).
+func (r Record) checkWithdrawals() error {
+	of := make(map[int64]int64, len(r.Revisions))
+	for _, rv := range r.Revisions {
+		of[rv.ID] = rv.QuestionID
+	}
+	seen := map[int64]bool{}
+	for i, e := range r.Events {
+		if e.Kind != workshop.EventRevisionWithdrawn {
+			continue
+		}
+		var d workshop.Withdrawal
+		if err := json.Unmarshal([]byte(e.Detail), &d); err != nil {
+			return inputErr(fmt.Sprintf("events[%d].detail", i), RuleWithdrawalUnknown, "%v", err)
+		}
+		switch q, ok := of[d.RevisionID]; {
+		case !ok || q != e.QuestionID:
+			return inputErr(fmt.Sprintf("events[%d].detail", i), RuleWithdrawalUnknown, "no revision %d of question %d", d.RevisionID, e.QuestionID)
+		case seen[d.RevisionID]:
+			return inputErr(fmt.Sprintf("events[%d].detail", i), RuleWithdrawalUnknown, "revision %d is withdrawn twice", d.RevisionID)
+		case e.Reason == "":
+			return inputErr(fmt.Sprintf("events[%d].reason", i), RuleWithdrawalUnknown, "the withdrawal of revision %d has no reason", d.RevisionID)
+		}
+		seen[d.RevisionID] = true
+	}
+	return nil
 }
 
 // replayRevoked is each expert's revocation as the events give it, in

@@ -27,7 +27,31 @@ const (
 	// belongs to one (and the record refuses a reveal on any other).
 	RuleRevealedCalibration elicit.Rule = "must stay ticked once the question's true value has been shown to the experts"
 	RuleRevealedTruth       elicit.Rule = "must stay set once it has been shown to the experts (a new value can be shown from the calibration page)"
+	// RuleScoredAtReveal keeps the answers a calibration question's reveal
+	// froze: Cooke's classical model scored them as they stood then.
+	RuleScoredAtReveal elicit.Rule = "cannot be withdrawn once the question's true value has been shown: the scores are fixed at the reveal"
 )
+
+// CheckWithdrawal reports whether revision rv, an answer to question q of
+// workshop w (the caller has found it there), may be withdrawn with the given reason: the reason is required, the
+// workshop must not be archived, the revision not already withdrawn, and
+// the question not a calibration question whose true value has been
+// shown (its answers were scored as they stood at the reveal). A
+// withdrawal of a revision of an earlier round is allowed: it corrects
+// the panel that round's feedback shows from then on.
+func CheckWithdrawal(w Workshop, q Question, rv Revision, reason string) error {
+	switch {
+	case strings.TrimSpace(reason) == "":
+		return inputErr("reason", elicit.RuleRequired, "")
+	case w.Archived:
+		return inputErr("action", RuleArchived, "bring the workshop back before withdrawing a judgement")
+	case rv.Withdrawn:
+		return inputErr("revision", RuleNothingChanged, "the judgement is already withdrawn")
+	case q.Frozen():
+		return inputErr("revision", RuleScoredAtReveal, "")
+	}
+	return nil
+}
 
 // CheckCorrection reports whether q may become next. Before any expert
 // has answered, any part of a question may be corrected, within

@@ -40,3 +40,47 @@ func TestCorrectionLockedByAnswersOrPrior(t *testing.T) {
 		}
 	}
 }
+
+// A withdrawal needs a reason, an unarchived workshop, a revision not yet
+// withdrawn, and a question whose answers no reveal has frozen; one of an
+// earlier round, or of a calibration question not yet revealed, is
+// allowed.
+func TestCheckWithdrawal(t *testing.T) {
+	w := Workshop{ID: 1, Round: 2, Open: true}
+	q := Question{ID: 5, WorkshopID: 1}
+	rv := Revision{ID: 9, QuestionID: 5, ExpertID: 3, Round: 1}
+	calib := Question{ID: 5, WorkshopID: 1, Calibration: true}
+	revealed := Question{ID: 5, WorkshopID: 1, Calibration: true, Revealed: true}
+	archived := w
+	archived.Archived, archived.Open = true, false
+	gone := rv
+	gone.Withdrawn = true
+	for _, c := range []struct {
+		name   string
+		w      Workshop
+		q      Question
+		rv     Revision
+		reason string
+		field  string
+		rule   elicit.Rule
+	}{
+		{"allowed", w, q, rv, "entered against the wrong expert", "", ""},
+		{"calibration not yet revealed", w, calib, rv, "typed on the wrong row", "", ""},
+		{"no reason", w, q, rv, "  ", "reason", elicit.RuleRequired},
+		{"archived", archived, q, rv, "why", "action", RuleArchived},
+		{"already withdrawn", w, q, gone, "why", "revision", RuleNothingChanged},
+		{"revealed", w, revealed, rv, "why", "revision", RuleScoredAtReveal},
+	} {
+		err := CheckWithdrawal(c.w, c.q, c.rv, c.reason)
+		if c.rule == "" {
+			if err != nil {
+				t.Errorf("%s: %v", c.name, err)
+			}
+			continue
+		}
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != c.rule {
+			t.Errorf("%s: got %v, want field %q rule %q", c.name, err, c.field, c.rule)
+		}
+	}
+}

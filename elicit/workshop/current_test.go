@@ -44,3 +44,26 @@ func TestCurrent(t *testing.T) {
 		t.Errorf("Current(id ≤ 3) = %v, want [2 3]", got)
 	}
 }
+
+// A withdrawn revision is nobody's answer: the expert's earlier revision
+// is current again, and an expert with no other drops out; a withdrawn
+// earlier revision leaves the current one as it was. Worked by hand.
+func TestCurrentPassesOverWithdrawn(t *testing.T) {
+	revs := []Revision{
+		{ID: 1, QuestionID: 1, ExpertID: 10, Round: 1},
+		{ID: 2, QuestionID: 1, ExpertID: 20, Round: 1, Withdrawn: true}, // 20's only answer
+		{ID: 3, QuestionID: 1, ExpertID: 10, Round: 1, Withdrawn: true}, // 10's latest, withdrawn
+		{ID: 4, QuestionID: 1, ExpertID: 30, Round: 1, Withdrawn: true}, // 30's earlier one
+		{ID: 5, QuestionID: 1, ExpertID: 30, Round: 2},
+	}
+	cur := Current(revs, nil)
+	if len(cur) != 2 || cur[Key{1, 10}].ID != 1 || cur[Key{1, 30}].ID != 5 {
+		t.Errorf("Current = %v, want expert 10 at revision 1 and expert 30 at 5", cur)
+	}
+	if _, ok := cur[Key{1, 20}]; ok {
+		t.Errorf("expert 20, whose one answer is withdrawn, has a current answer")
+	}
+	if got := Current(revs, Through(1)); len(got) != 1 || got[Key{1, 10}].ID != 1 {
+		t.Errorf("Current(Through(1)) = %v, want only expert 10 at revision 1", got)
+	}
+}

@@ -146,6 +146,12 @@ type Revision struct {
 	// from the round feedback: it stays in the record but no expert and no
 	// room view is shown it.
 	ReasonWithheld bool `json:"reason_withheld,omitempty"`
+	// Withdrawn is set when the facilitator has withdrawn the revision (a
+	// judgement entered against the wrong expert or question, or one the
+	// expert took back): it stays in the record, marked, and is nobody's
+	// answer (Current passes over it). Its reason and time are its
+	// EventRevisionWithdrawn's.
+	Withdrawn bool `json:"withdrawn,omitempty"`
 	// Kept is the answer's fit as computed when the revision was saved or
 	// imported (Question.Fit), kept with it so that pages and records do
 	// not fit every revision again; nil for a revision saved before fits
@@ -242,7 +248,18 @@ const (
 	EventScaleSet EventKind = "calibration_background_set"
 	// An answer sheet's judgements saved together; detail: SheetImport.
 	EventAnswersImported EventKind = "answers_imported"
+	// A revision withdrawn by the facilitator; detail: Withdrawal.
+	EventRevisionWithdrawn EventKind = "revision_withdrawn"
 )
+
+// Withdrawal is a revision_withdrawn event's detail: the revision the
+// facilitator withdrew, whose answer it was and of which round. The
+// event's reason says why.
+type Withdrawal struct {
+	RevisionID int64 `json:"revision_id"`
+	ExpertID   int64 `json:"expert_id"`
+	Round      int   `json:"round"`
+}
 
 // SheetImport is what the record keeps of an answer sheet whose rows the
 // facilitator saved as judgements (an upload or parley import-answers):
@@ -284,7 +301,7 @@ var EventKinds = []EventKind{
 	EventQuestionEdited, EventQuestionRetired, EventQuestionRestored, EventRoundReopened,
 	EventWorkshopArchived, EventWorkshopRestored, EventReasonWithheld, EventReasonReleased,
 	EventWorkshopEdited, EventTruthEntered, EventDataRecorded, EventAnswersImported,
-	EventScaleSet,
+	EventScaleSet, EventRevisionWithdrawn,
 }
 
 // Event is one facilitator decision with its time and reason. Detail holds
