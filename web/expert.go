@@ -1507,14 +1507,16 @@ func (fb *feedback) reasons(except int64) []feedbackReason {
 // closed round change only if it is reopened (saves go to the open round,
 // and revisions are append-only), so the feedback is read and pooled once
 // per key; a revocation, a reissued token lifting one, a reason withheld
-// or shown again, or a round closed, opened or reopened gives a new key.
+// or shown again, a judgement withdrawn, or a round closed, opened or
+// reopened gives a new key.
 type feedbackKey struct {
-	workshop int64
-	question int64
-	through  int
-	revoked  string
-	reasons  uint64
-	rounds   uint64
+	workshop  int64
+	question  int64
+	through   int
+	revoked   string
+	reasons   uint64
+	rounds    uint64
+	withdrawn uint64
 }
 
 // feedbackFor returns the panel fed back on sc's question in sc's round,
@@ -1534,7 +1536,8 @@ func (s *Server) panelThrough(r *http.Request, ws workshop.Workshop, q workshop.
 	if err != nil {
 		return nil, err
 	}
-	key := feedbackKey{workshop: ws.ID, question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load(), rounds: s.roundGen.Load()}
+	key := feedbackKey{workshop: ws.ID, question: q.ID, through: through, revoked: fmt.Sprint(revoked), reasons: s.reasonGen.Load(), rounds: s.roundGen.Load(),
+		withdrawn: s.withdrawnGen.Load()}
 	fb, err := s.feedbacks.GetErr(key, func() (*feedback, error) {
 		// Other requests may be waiting on this computation: an expert
 		// closing their page must not fail the others' panels.

@@ -39,6 +39,8 @@ import (
 //	GET  /w/{workshop}/q/{question}/reasons  the reasons with their withhold forms (a large panel's page links here)
 //	POST /w/{workshop}/q/{question}/reasons/{revision}  action=withhold|release a reason from the feedback
 //	GET  /w/{workshop}/q/{question}/history  the question's whole revision history
+//	GET  /w/{workshop}/q/{question}/revisions/{revision}/withdraw  confirm withdrawing a judgement (facilitator_withdraw.go)
+//	POST /w/{workshop}/q/{question}/revisions/{revision}/withdraw  withdraw it, reason required
 //	GET  /w/{workshop}/q/{question}/room     the anonymised panel for the projector
 //	GET  /w/{workshop}/q/{question}/enter/{expert}      enter a judgement on the expert's behalf (facilitator_entry.go)
 //	POST /w/{workshop}/q/{question}/enter/{expert}/preview|save  (the preview, which saves nothing, also in an archived workshop)
@@ -81,6 +83,8 @@ func (s *Server) facilitatorRoutes(r chi.Router) {
 		r.Get("/q/{question}/reasons", s.questionReasons)
 		r.Post("/q/{question}/reasons/{revision}", s.withholdReason)
 		r.Get("/q/{question}/history", s.questionHistory)
+		r.Get("/q/{question}/revisions/{revision}/withdraw", s.withdrawForm)
+		r.Post("/q/{question}/revisions/{revision}/withdraw", s.withdrawRevision)
 		r.Get("/q/{question}/room", s.roomView)
 		r.Post("/q/{question}/weights", s.setWeights)
 		r.Post("/q/{question}/agree", s.agreePrior)

@@ -140,29 +140,30 @@ func (w eventWriter) entryRow(rv workshop.Revision) logRow {
 
 // eventLabels are the log's plain words for each kind of decision.
 var eventLabels = map[workshop.EventKind]string{
-	workshop.EventWorkshopCreated:  "Workshop created",
-	workshop.EventRoundClosed:      "Round closed",
-	workshop.EventRoundOpened:      "Round opened",
-	workshop.EventWeightsSet:       "Pool weights set",
-	workshop.EventPriorAgreed:      "Prior agreed",
-	workshop.EventTruthRevealed:    "True value revealed",
-	workshop.EventExpertAdded:      "Expert added",
-	workshop.EventExpertRevoked:    "Expert's access revoked",
-	workshop.EventTokenReissued:    "Expert's link re-issued",
-	workshop.EventQuestionAdded:    "Question added",
-	workshop.EventQuestionEdited:   "Question corrected",
-	workshop.EventQuestionRetired:  "Question retired",
-	workshop.EventQuestionRestored: "Question brought back",
-	workshop.EventRoundReopened:    "Round reopened",
-	workshop.EventWorkshopArchived: "Workshop archived",
-	workshop.EventWorkshopRestored: "Workshop brought back",
-	workshop.EventReasonWithheld:   "Reason withheld from the feedback",
-	workshop.EventReasonReleased:   "Reason shown again in the feedback",
-	workshop.EventWorkshopEdited:   "Workshop details changed",
-	workshop.EventTruthEntered:     "True value entered (hidden)",
-	workshop.EventDataRecorded:     "Observed data recorded",
-	workshop.EventAnswersImported:  "Judgements imported from an answer sheet",
-	workshop.EventScaleSet:         "Calibration scale set",
+	workshop.EventWorkshopCreated:   "Workshop created",
+	workshop.EventRoundClosed:       "Round closed",
+	workshop.EventRoundOpened:       "Round opened",
+	workshop.EventWeightsSet:        "Pool weights set",
+	workshop.EventPriorAgreed:       "Prior agreed",
+	workshop.EventTruthRevealed:     "True value revealed",
+	workshop.EventExpertAdded:       "Expert added",
+	workshop.EventExpertRevoked:     "Expert's access revoked",
+	workshop.EventTokenReissued:     "Expert's link re-issued",
+	workshop.EventQuestionAdded:     "Question added",
+	workshop.EventQuestionEdited:    "Question corrected",
+	workshop.EventQuestionRetired:   "Question retired",
+	workshop.EventQuestionRestored:  "Question brought back",
+	workshop.EventRoundReopened:     "Round reopened",
+	workshop.EventWorkshopArchived:  "Workshop archived",
+	workshop.EventWorkshopRestored:  "Workshop brought back",
+	workshop.EventReasonWithheld:    "Reason withheld from the feedback",
+	workshop.EventReasonReleased:    "Reason shown again in the feedback",
+	workshop.EventWorkshopEdited:    "Workshop details changed",
+	workshop.EventTruthEntered:      "True value entered (hidden)",
+	workshop.EventDataRecorded:      "Observed data recorded",
+	workshop.EventAnswersImported:   "Judgements imported from an answer sheet",
+	workshop.EventScaleSet:          "Calibration scale set",
+	workshop.EventRevisionWithdrawn: "Judgement withdrawn",
 }
 
 func eventLabel(k workshop.EventKind) string {
@@ -432,6 +433,15 @@ func (w eventWriter) sentence(e workshop.Event) string {
 		return "Marked finished; nothing can be changed until it is brought back."
 	case workshop.EventWorkshopRestored:
 		return "Can be changed again; the round stays closed until the next opens."
+	case workshop.EventRevisionWithdrawn:
+		if rv, ok := w.revisions[d.RevisionID]; ok {
+			what := w.expert(rv.ExpertID) + "'s judgement of round " + strconv.Itoa(rv.Round)
+			if q, ok := w.questions[rv.QuestionID]; ok {
+				what += " (" + answerSummary(q, rv.Answer) + ")"
+			}
+			return what + " is withdrawn: it stays in the record, marked, and is no longer their answer in the panel, the pools, the scores or the feedback."
+		}
+		return "One expert's judgement on this question is withdrawn: it stays in the record, marked, and is no longer their answer."
 	case workshop.EventReasonWithheld:
 		if rv, ok := w.revisions[d.RevisionID]; ok {
 			return w.expert(rv.ExpertID) + "'s reason from round " + strconv.Itoa(rv.Round) + " is kept from the other experts' feedback and the room view; it stays in the record."

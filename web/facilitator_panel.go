@@ -287,6 +287,9 @@ type panelView struct {
 	Recorded     recordedData // study data the agreed prior is updated with
 	// Sheets says which answer sheet and row a judgement came from.
 	Sheets map[int64]workshop.SheetSource
+	// Withdrawn are the withdrawal events of the history's withdrawn
+	// revisions (their time and reason), by revision ID.
+	Withdrawn map[int64]workshop.Event
 	// PoolChanged says how the pool the agreed prior was taken from has
 	// changed since (Server.poolChangeText); "" when it has not.
 	PoolChanged string
@@ -295,17 +298,28 @@ type panelView struct {
 	Done string
 }
 
+// withdrawable reports whether the question's judgements may be withdrawn
+// (workshop.CheckWithdrawal): not in an archived workshop, nor once a
+// calibration question's true value has been shown.
+func (v panelView) withdrawable() bool {
+	return !v.Workshop.Archived && !v.State.Question.Frozen()
+}
+
 // What a form that leads to the panel saved, said there once.
 const (
 	doneCorrected = "corrected" // the question's correction
 	doneRestored  = "restored"  // the question brought back
+	doneWithdrawn = "withdrawn" // a judgement withdrawn (facilitator_withdraw.go)
 )
 
-// reasoned are the question's revisions that carry a reason, oldest first.
+// reasoned are the question's revisions that carry a reason and stand
+// (not withdrawn), oldest first.
 func (st questionState) reasoned() []workshop.Revision {
 	var out []workshop.Revision
 	for _, rv := range st.History {
-		if strings.TrimSpace(rv.Reason) != "" {
+		// A withdrawn judgement is fed back to nobody, so its reason
+		// needs no decision.
+		if strings.TrimSpace(rv.Reason) != "" && !rv.Withdrawn {
 			out = append(out, rv)
 		}
 	}
@@ -381,7 +395,7 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 	v := panelView{Workshop: ws, Experts: d.Experts, State: st, Chart: st.chartView(), WeightsForm: wf, AgreeForm: af, Consensus: cf,
 		RetireForm: forms.retire, WithholdForm: forms.withhold}
 	if status == http.StatusOK && forms.page == "" {
-		v.Done = s.takeConfirmation(w, r, questionPath(ws.ID, q.ID), doneCorrected, doneRestored)
+		v.Done = s.takeConfirmation(w, r, questionPath(ws.ID, q.ID), doneCorrected, doneRestored, doneWithdrawn)
 	}
 	v.Strength = panelStrength(d)
 	if v.PoolChanged, err = s.poolChangeText(r.Context(), ws, st, d.Experts, againAt{OnQuestionPage: true}); err != nil {
@@ -393,6 +407,10 @@ func (s *Server) showPanelWith(w http.ResponseWriter, r *http.Request, status in
 		return
 	}
 	if v.Sheets, err = s.sheetSources(r.Context(), ws.ID, d.Revisions); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if v.Withdrawn, err = s.withdrawals(r.Context(), ws.ID, st.History); err != nil {
 		s.fail(w, r, err)
 		return
 	}

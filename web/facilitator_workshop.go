@@ -168,6 +168,10 @@ type answerState struct {
 func answerStates(round int, revs []workshop.Revision) map[int64]map[int64]answerState {
 	m := map[int64]map[int64]answerState{}
 	for _, rv := range revs {
+		if rv.Withdrawn {
+			// Nobody's answer: the overview counts the answers that stand.
+			continue
+		}
 		if m[rv.ExpertID] == nil {
 			m[rv.ExpertID] = map[int64]answerState{}
 		}

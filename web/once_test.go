@@ -232,6 +232,11 @@ func TestEveryFormThatChangesSomethingHasAKey(t *testing.T) {
 		questionPath(ws.ID, qs[0].ID), questionPath(ws.ID, qs[0].ID) + "/edit", questionPath(ws.ID, qs[0].ID) + "/reasons",
 		studyPath(ws.ID, qs[0].ID), quickPriorsPath(ws.ID), calibrationPath(ws.ID), entryPath(ws.ID, qs[0].ID, es[0].ID),
 		workshopPath(ws.ID) + "/answers/import"}
+	answers, err := h.db.LatestRevisions(context.Background(), qs[0].ID, 1)
+	if err != nil || len(answers) == 0 {
+		t.Fatalf("the demo's answers to Q1: %v", err)
+	}
+	pages = append(pages, withdrawPath(ws.ID, qs[0].ID, answers[0].ID))
 	exempt := regexp.MustCompile(`action="(/signin|/signout|/w/[0-9]+/answers/import(/confirm)?)"`)
 	seen := map[string]bool{}
 	forms := 0

@@ -66,6 +66,9 @@ type Server struct {
 	// reasonGen moves on whenever a reason is withheld or shown again, so
 	// that the remembered feedback is read afresh (feedbackKey).
 	reasonGen atomic.Uint64
+	// withdrawnGen moves on whenever a judgement is withdrawn: the panel a
+	// closed round feeds back loses it (feedbackKey).
+	withdrawnGen atomic.Uint64
 	// roundGen moves on whenever a round is closed, opened or reopened: a
 	// reopened round takes answers again, so the panel as it closes anew
 	// is not the one remembered when it first closed (feedbackKey).

@@ -79,6 +79,11 @@ type Store interface {
 	// SetReasonWithheld withholds a revision's reason from the round
 	// feedback and the room view, or shows it again.
 	SetReasonWithheld(ctx context.Context, revisionID int64, withheld bool, reason string) error
+	// WithdrawRevision withdraws a revision of the workshop, with its
+	// reason (workshop.CheckWithdrawal): it stays in the record, marked,
+	// and is nobody's current answer; a revision of another workshop is
+	// not found.
+	WithdrawRevision(ctx context.Context, workshopID, revisionID int64, reason string) error
 
 	// Facilitator decisions.
 	SetWeights(ctx context.Context, w *workshop.Weights) error                          // records EventWeightsSet

@@ -161,7 +161,7 @@ func members(in PanelInput) []Member {
 	cur := Current(in.Revisions, keep)
 	saves := map[int64]int{}
 	for _, rv := range in.Revisions {
-		if keep(rv) {
+		if keep(rv) && !rv.Withdrawn {
 			saves[rv.ExpertID]++
 		}
 	}

@@ -113,6 +113,26 @@ func TestPanelStateThroughARound(t *testing.T) {
 	}
 }
 
+// A withdrawal: A's round-2 revision withdrawn, their round-1 answer is
+// current, counted once; B's only answer withdrawn, B leaves the pool and
+// A's share is the whole (weights 2 of 2, worked by hand).
+func TestPanelStateWithWithdrawals(t *testing.T) {
+	in := panelCase()
+	for i := range in.Revisions {
+		if id := in.Revisions[i].ID; id == 13 || id == 11 {
+			in.Revisions[i].Withdrawn = true
+		}
+	}
+	p := PanelState(in)
+	a, b := p.Members[0], p.Members[1]
+	if a.Revision == nil || a.Revision.ID != 10 || a.Saves != 1 || !a.Pooled || a.Share != 1 {
+		t.Errorf("A: %+v, want revision 10, one save, the whole pool", a)
+	}
+	if b.Revision != nil || b.Saves != 0 || b.Pooled {
+		t.Errorf("B: %+v, want no answer", b)
+	}
+}
+
 // Weights: equal weights share alike; an expert the custom weights leave
 // out is pooled with share 0 and left out of the mixture; weights that
 // are all zero form no pool and pool nobody.

@@ -1,6 +1,7 @@
 package workshop
 
 import (
+	"encoding/json"
 	"fmt"
 	"math"
 	"slices"
@@ -539,4 +540,20 @@ func checkTexts(fs []textField) error {
 		}
 	}
 	return nil
+}
+
+// Withdrawals maps each revision a revision_withdrawn event of evs names
+// to that event, which carries the withdrawal's time and reason.
+func Withdrawals(evs []Event) map[int64]Event {
+	out := map[int64]Event{}
+	for _, e := range evs {
+		if e.Kind != EventRevisionWithdrawn {
+			continue
+		}
+		var d Withdrawal
+		if json.Unmarshal([]byte(e.Detail), &d) == nil && d.RevisionID != 0 {
+			out[d.RevisionID] = e
+		}
+	}
+	return out
 }

@@ -1,0 +1,204 @@
+package web
+
+import (
+	"context"
+	"net/http"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// The facilitator withdraws a judgement from the question's history, on
+// a page that asks for a reason: the expert's earlier answer is current
+// again on their own page and the facilitator's, the history marks the
+// withdrawn one with its reason, and an expert whose one answer is
+// withdrawn leaves the room view. Refused, saving nothing: no reason, a
+// judgement withdrawn already, one of another question (404), and one of
+// a calibration question whose true value has been shown.
+func TestWithdrawFromTheHistory(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ctx := context.Background()
+	q := qs[0]
+	qp := questionPath(ws.ID, q.ID)
+	byName := map[string]workshop.Expert{}
+	for _, e := range es {
+		byName[e.Name] = e
+	}
+	first := byName[links[0].Name]
+	before, err := h.db.QuestionExpertRevisions(ctx, q.ID, first.ID)
+	if err != nil || len(before) == 0 {
+		t.Fatalf("%s's answers to Q1 in the demo: %v, %v", first.Name, before, err)
+	}
+	earlier := before[len(before)-1]
+	// The expert saves again: an answer that will be withdrawn.
+	if r, body := h.post(links[0].Path+"q/"+strconv.FormatInt(q.ID, 10)+"/save", url.Values{
+		"values[0]": {"0.0313"}, "values[1]": {"0.0717"}, "values[2]": {"0.1719"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	now, _ := h.db.QuestionExpertRevisions(ctx, q.ID, first.ID)
+	wrong := now[len(now)-1]
+
+	_, panel := h.get(qp)
+	page := withdrawPath(ws.ID, q.ID, wrong.ID)
+	if !strings.Contains(panel, `href="`+page+`"`) {
+		t.Fatalf("the history offers no withdrawal of revision %d", wrong.ID)
+	}
+	res, body := h.get(page)
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "becomes their earlier one") || !strings.Contains(body, `name="reason"`) {
+		t.Fatalf("the withdrawal page: %d\n%s", res.StatusCode, body)
+	}
+
+	c0 := h.counts(ws.ID)
+	if res, body := h.post(page, url.Values{"reason": {"  "}}); res.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, "err-reason") {
+		t.Fatalf("no reason: %d\n%s", res.StatusCode, body)
+	}
+	if c := h.counts(ws.ID); c != c0 {
+		t.Fatalf("a refused withdrawal saved something: %+v, was %+v", c, c0)
+	}
+	why := "Typed into the form of the wrong expert (invented)."
+	res, _ = h.post(page, url.Values{"reason": {why}})
+	if res.StatusCode != http.StatusSeeOther || res.Header.Get("Location") != qp+"#history" {
+		t.Fatalf("withdraw: %d to %q", res.StatusCode, res.Header.Get("Location"))
+	}
+	_, panel = h.get(qp)
+	for _, want := range []string{"Judgement withdrawn.", ">withdrawn</span>", why} {
+		if !strings.Contains(panel, want) {
+			t.Errorf("the panel after the withdrawal lacks %q", want)
+		}
+	}
+	if strings.Contains(panel, `href="`+page+`"`) {
+		t.Error("the history still offers to withdraw the withdrawn judgement")
+	}
+	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "Judgement withdrawn") || !strings.Contains(log, why) ||
+		!strings.Contains(log, "judgement of round 1") {
+		t.Error("the decision log does not record the withdrawal with its reason")
+	}
+	// The expert's own page shows the earlier answer, and not the
+	// withdrawn one nor the facilitator's reason.
+	_, own := h.get(links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+	if strings.Contains(own, "0.1719") || strings.Contains(own, "wrong expert") ||
+		!strings.Contains(own, strconv.FormatFloat(earlier.Answer.Values[2], 'f', -1, 64)) {
+		t.Errorf("the expert's page after the withdrawal: shows the withdrawn answer or the reason, or not the earlier one")
+	}
+
+	// Withdrawn again: refused, nothing saved.
+	c1 := h.counts(ws.ID)
+	if res, body := h.post(page, url.Values{"reason": {"again"}}); res.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, "already withdrawn") {
+		t.Errorf("withdrawn twice: %d", res.StatusCode)
+	}
+	// Under another question's address: not found.
+	if res, _ := h.post(withdrawPath(ws.ID, qs[1].ID, earlier.ID), url.Values{"reason": {"wrong question"}}); res.StatusCode != http.StatusNotFound {
+		t.Errorf("a revision under another question: %d, want 404", res.StatusCode)
+	}
+	if c := h.counts(ws.ID); c != c1 {
+		t.Fatalf("refused withdrawals saved something: %+v, was %+v", c, c1)
+	}
+
+	// An expert whose one answer is withdrawn leaves the room view.
+	latest, _ := h.db.LatestRevisions(ctx, q.ID, 1)
+	var only workshop.Revision
+	for _, rv := range latest {
+		if all, _ := h.db.QuestionExpertRevisions(ctx, q.ID, rv.ExpertID); len(all) == 1 {
+			only = rv
+		}
+	}
+	if only.ID == 0 {
+		t.Fatal("no expert of the demo has a single answer to Q1")
+	}
+	if res, body := h.post(withdrawPath(ws.ID, q.ID, only.ID), url.Values{"reason": {"The expert asked to take it back (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw an only answer: %d %s", res.StatusCode, body)
+	}
+	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close: %d %s", r.StatusCode, body)
+	}
+	if _, body := h.get(roomPath(ws.ID, q.ID)); len(legendLabels(body)) != len(latest)-1 {
+		t.Errorf("room view after an only answer was withdrawn: %v, want %d experts", legendLabels(body), len(latest)-1)
+	}
+
+	// Round 2's feedback, once read, follows a later withdrawal of a
+	// round-1 answer: the panel it remembered is read afresh.
+	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"open"}, "reason": {"Discussion done (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("open round 2: %d %s", r.StatusCode, body)
+	}
+	fed := func() int {
+		_, body := h.get(links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+		n := 0
+		for _, l := range legendLabels(body) {
+			if strings.HasPrefix(l, "Expert ") {
+				n++
+			}
+		}
+		return n
+	}
+	others := fed()
+	var another workshop.Revision
+	for _, rv := range latest {
+		if rv.ID != only.ID && rv.ExpertID != first.ID {
+			another = rv
+		}
+	}
+	if others == 0 || another.ID == 0 {
+		t.Fatalf("round 2 feeds back %d other experts; another answer to withdraw: %d", others, another.ID)
+	}
+	if res, body := h.post(withdrawPath(ws.ID, q.ID, another.ID), url.Values{"reason": {"Entered against the wrong question (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw a round-1 answer in round 2: %d %s", res.StatusCode, body)
+	}
+	if n := fed(); n != others-1 {
+		t.Errorf("round 2 feeds back %d other experts after a withdrawal, want %d", n, others-1)
+	}
+
+	// A calibration question's answers, once its true value is shown,
+	// are scored as they stood: refused naming the rule.
+	revealed := false
+	for _, cq := range qs {
+		if !cq.Calibration {
+			continue
+		}
+		revs, _ := h.db.LatestRevisions(ctx, cq.ID, 1)
+		if len(revs) == 0 || cq.TrueValue == nil {
+			continue
+		}
+		if err := h.db.SetTrueValue(ctx, cq.ID, *cq.TrueValue, true, "shown to the room (invented)"); err != nil {
+			t.Fatal(err)
+		}
+		c2 := h.counts(ws.ID)
+		res, body := h.post(withdrawPath(ws.ID, cq.ID, revs[0].ID), url.Values{"reason": {"wrong expert"}})
+		if res.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "calibration scores are fixed") {
+			t.Errorf("withdrawal after the reveal: %d", res.StatusCode)
+		}
+		if c := h.counts(ws.ID); c != c2 {
+			t.Errorf("a refused withdrawal after the reveal saved something")
+		}
+		if _, body := h.get(withdrawPath(ws.ID, cq.ID, revs[0].ID)); strings.Contains(body, `name="reason"`) {
+			t.Errorf("the withdrawal page offers a form after the reveal")
+		}
+		revealed = true
+		break
+	}
+	if !revealed {
+		t.Error("the demo has no answered calibration question with a true value to reveal")
+	}
+}
+
+// The overview's grid counts the answers that stand: an expert whose one
+// answer was withdrawn has none, and one whose revision was withdrawn
+// has their earlier round's answer carried.
+func TestOverviewLeavesWithdrawnAnswersOut(t *testing.T) {
+	revs := []workshop.Revision{
+		{ID: 1, QuestionID: 5, ExpertID: 1, Round: 1, Withdrawn: true},
+		{ID: 2, QuestionID: 5, ExpertID: 2, Round: 1},
+		{ID: 3, QuestionID: 5, ExpertID: 2, Round: 2, Withdrawn: true},
+	}
+	m := answerStates(2, revs)
+	if _, ok := m[1][5]; ok {
+		t.Errorf("expert 1, whose one answer was withdrawn, has an answer: %+v", m[1])
+	}
+	if st := m[2][5]; st.Round != 1 || st.Saves != 0 || !st.Earlier {
+		t.Errorf("expert 2's answer: %+v, want round 1's carried", st)
+	}
+}
