@@ -129,10 +129,12 @@ func (st questionState) poolChange(then *workshop.Weights) (workshop.PoolChange,
 		}
 	}
 	expertOf := make(map[int64]int64, len(st.History))
+	withdrawn := map[int64]bool{}
 	for _, rv := range st.History {
 		expertOf[rv.ID] = rv.ExpertID
+		withdrawn[rv.ID] = rv.Withdrawn
 	}
-	return a.PoolChangeSince(now, st.Weights, then, expertOf)
+	return a.PoolChangeSince(now, st.Weights, then, expertOf, withdrawn)
 }
 
 // poolChangeText is poolChangeWords for question state st, its experts
@@ -208,6 +210,9 @@ func poolChangeWords(c workshop.PoolChange, name func(int64) string, at againAt)
 	}
 	if len(c.Left) > 0 {
 		parts = append(parts, "no longer in the pool: "+names(c.Left))
+	}
+	if len(c.Withdrawn) > 0 {
+		parts = append(parts, "judgement withdrawn since: "+names(c.Withdrawn))
 	}
 	if c.Weights {
 		parts = append(parts, "other weights are in force")

@@ -202,3 +202,42 @@ func TestOverviewLeavesWithdrawnAnswersOut(t *testing.T) {
 		t.Errorf("expert 2's answer: %+v, want round 1's carried", st)
 	}
 }
+
+// A prior agreed from a pool that included a judgement withdrawn since:
+// the question's page and the report say the pool has changed, naming
+// the judgement as withdrawn, and the priors CSV marks it.
+func TestPriorFromAPoolWithAWithdrawnJudgement(t *testing.T) {
+	h, ws, qs, es, _ := seeded(t)
+	ctx := context.Background()
+	q := qs[0]
+	qp := questionPath(ws.ID, q.ID)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"From the pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree: %d %s", res.StatusCode, body)
+	}
+	latest, _ := h.db.LatestRevisions(ctx, q.ID, 1)
+	gone := latest[0]
+	res, body := h.get(withdrawPath(ws.ID, q.ID, gone.ID))
+	if res.StatusCode != http.StatusOK || !strings.Contains(body, "1 agreed prior was taken from a pool that included this judgement") {
+		t.Errorf("the withdrawal page does not name the prior that pooled it")
+	}
+	if res, body := h.post(withdrawPath(ws.ID, q.ID, gone.ID), url.Values{"reason": {"Entered against the wrong question (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw: %d %s", res.StatusCode, body)
+	}
+	name := ""
+	for _, e := range es {
+		if e.ID == gone.ExpertID {
+			name = e.Name
+		}
+	}
+	want := "judgement withdrawn since: " + name
+	for _, path := range []string{qp, workshopPath(ws.ID) + "/report"} {
+		if _, body := h.get(path); !strings.Contains(body, want) {
+			t.Errorf("%s does not say %q", path, want)
+		}
+	}
+	_, csv := h.get(workshopPath(ws.ID) + "/priors.csv")
+	lines := strings.Split(strings.TrimSpace(csv), "\n")
+	if len(lines) < 2 || !strings.HasSuffix(strings.TrimSpace(lines[1]), ",true") {
+		t.Errorf("priors.csv does not mark the prior's pool as changed:\n%s", csv)
+	}
+}

@@ -24,11 +24,13 @@ func (r Record) PoolChange(q Question) (workshop.PoolChange, bool) {
 	revs := make([]workshop.Revision, 0, len(r.Revisions))
 	fitted := map[int64]bool{}
 	expertOf := map[int64]int64{}
+	withdrawn := map[int64]bool{}
 	for _, rv := range r.Revisions {
 		if rv.QuestionID == q.ID {
 			revs = append(revs, rv.Revision)
 			fitted[rv.ID] = rv.Fit != nil
 			expertOf[rv.ID] = rv.ExpertID
+			withdrawn[rv.ID] = rv.Withdrawn
 		}
 	}
 	now := map[int64]int64{}
@@ -46,5 +48,5 @@ func (r Record) PoolChange(q Question) (workshop.PoolChange, bool) {
 			then = &r.WeightHistory[i]
 		}
 	}
-	return q.AgreedPrior.PoolChangeSince(now, r.Weights, then, expertOf)
+	return q.AgreedPrior.PoolChangeSince(now, r.Weights, then, expertOf, withdrawn)
 }

@@ -64,3 +64,38 @@ func TestPoolChangeFromTheRecord(t *testing.T) {
 		At: t0.Add(9 * time.Minute), Answer: workshop.Answer{Values: []float64{0.12, 0.22, 0.42}}})
 	check("Bela revised", true, []int64{22})
 }
+
+// A pooled judgement withdrawn since marks the prior as agreed from a
+// pool that has changed, in the record and the priors CSV, whether or
+// not the expert has another answer.
+func TestPoolChangeAfterAWithdrawal(t *testing.T) {
+	src := workshoptest.PumpSeals()
+	src.Priors = src.Priors[:1]
+	src.Weights = workshop.Weights{WorkshopID: 7, Scheme: workshop.WeightsEqual}
+	src.Data = nil
+	src.Priors[0].Pooled = []int64{35, 32} // Ada's round-2 answer and Bela's
+	for i := range src.Revisions {
+		if src.Revisions[i].ID == 32 {
+			src.Revisions[i].Withdrawn = true
+		}
+	}
+	r, err := Build(src, t0.Add(time.Hour))
+	if err != nil {
+		t.Fatal(err)
+	}
+	c, ok := r.PoolChange(r.Questions[0])
+	if !ok || !c.Any() || len(c.Withdrawn) != 1 || c.Withdrawn[0] != 22 || len(c.Revised)+len(c.Left) != 0 {
+		t.Fatalf("Bela's pooled judgement withdrawn: %v %+v", ok, c)
+	}
+	var buf bytes.Buffer
+	if err := r.WritePriorsCSV(&buf); err != nil {
+		t.Fatal(err)
+	}
+	rows, err := csv.NewReader(&buf).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if last := len(rows[0]) - 1; rows[1][last] != "true" {
+		t.Errorf("priors CSV pool_changed = %q, want true", rows[1][last])
+	}
+}

@@ -15,11 +15,11 @@ func TestPoolChangeSince(t *testing.T) {
 	p := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12, 13}, WeightSetID: 5}
 
 	set5 := Weights{ID: 5, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 1}}
-	if c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13}, set5, nil, expertOf); !ok || c.Any() {
+	if c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13}, set5, nil, expertOf, nil); !ok || c.Any() {
 		t.Errorf("the same pool: %+v, %v; want no change", c, ok)
 	}
 	set6 := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 1, 3: 1, 4: 1}}
-	c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 14, 4: 15}, set6, &set5, expertOf)
+	c, ok := p.PoolChangeSince(map[int64]int64{1: 11, 2: 14, 4: 15}, set6, &set5, expertOf, nil)
 	if !ok || fmt.Sprint(c.Revised, c.Joined, c.Left, c.Weights) != "[2] [4] [3] true" || !c.Any() {
 		t.Errorf("expert 2 revised, 4 answered, 3 revoked, weights changed: got %+v, %v", c, ok)
 	}
@@ -28,9 +28,29 @@ func TestPoolChangeSince(t *testing.T) {
 		{Source: PriorFromPool},                      // agreed before Parley kept the pooled revisions
 		{Source: PriorFromPool, Pooled: []int64{99}}, // a revision the caller does not know
 	} {
-		if _, ok := other.PoolChangeSince(map[int64]int64{1: 11}, set5, nil, expertOf); ok {
+		if _, ok := other.PoolChangeSince(map[int64]int64{1: 11}, set5, nil, expertOf, nil); ok {
 			t.Errorf("%+v: compared, want nothing to compare", other)
 		}
+	}
+}
+
+// A pooled judgement withdrawn since is named as withdrawn, whether the
+// expert's earlier answer is current again (not "revised") or they have
+// none (not "left"); one of an expert with weight 0 then changes nothing.
+func TestPoolChangeSinceWithdrawn(t *testing.T) {
+	// 9 is expert 2's answer before 12; 11, 12, 13 were pooled under set 5.
+	expertOf := map[int64]int64{9: 2, 11: 1, 12: 2, 13: 3}
+	p := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12, 13}, WeightSetID: 5}
+	set5 := Weights{ID: 5, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 1}}
+	for _, now := range []map[int64]int64{{1: 11, 2: 9, 3: 13}, {1: 11, 3: 13}} {
+		c, ok := p.PoolChangeSince(now, set5, &set5, expertOf, map[int64]bool{12: true})
+		if !ok || fmt.Sprint(c.Withdrawn, c.Revised, c.Left, c.Joined) != "[2] [] [] []" || !c.Any() {
+			t.Errorf("now %v, 12 withdrawn: %+v, want expert 2's judgement withdrawn and nothing else", now, c)
+		}
+	}
+	zero := Weights{ID: 5, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 0, 3: 1}}
+	if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 3: 13}, zero, &zero, expertOf, map[int64]bool{12: true}); c.Any() {
+		t.Errorf("a withdrawn judgement of weight 0: %+v, want no change", c)
 	}
 }
 
@@ -42,20 +62,20 @@ func TestPoolChangeSinceWeightsAlike(t *testing.T) {
 	now := map[int64]int64{1: 11, 2: 12}
 	none := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12}}
 	equal := Weights{Scheme: WeightsEqual}
-	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsEqual}, &equal, expertOf); c.Any() {
+	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsEqual}, &equal, expertOf, nil); c.Any() {
 		t.Errorf("equal weights applied after a prior agreed under none: %+v, want no change", c)
 	}
-	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 3}}, &equal, expertOf); !c.Weights {
+	if c, _ := none.PoolChangeSince(now, Weights{ID: 3, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 3}}, &equal, expertOf, nil); !c.Weights {
 		t.Error("custom weights after equal ones: no change, want one")
 	}
 	custom := Weights{ID: 3, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 1, 2: 3}}
 	under := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12}, WeightSetID: 3}
 	again := custom
 	again.ID = 4
-	if c, _ := under.PoolChangeSince(now, again, &custom, expertOf); c.Any() {
+	if c, _ := under.PoolChangeSince(now, again, &custom, expertOf, nil); c.Any() {
 		t.Errorf("the same custom weights set again: %+v, want no change", c)
 	}
-	if c, _ := under.PoolChangeSince(now, again, nil, expertOf); !c.Weights {
+	if c, _ := under.PoolChangeSince(now, again, nil, expertOf, nil); !c.Weights {
 		t.Error("another set, the earlier one not known: no change, want one")
 	}
 	// Weights are relative: 2 and 6 give the shares 1 and 3 gave, and an
@@ -70,7 +90,7 @@ func TestPoolChangeSinceWeightsAlike(t *testing.T) {
 		{map[int64]float64{1: 1, 2: 3, 5: 1}, true},
 	} {
 		scaled := Weights{ID: 4, Scheme: WeightsCustom, ByExpert: c.by}
-		if got, _ := under.PoolChangeSince(now, scaled, &custom, expertOf); got.Weights != c.change {
+		if got, _ := under.PoolChangeSince(now, scaled, &custom, expertOf, nil); got.Weights != c.change {
 			t.Errorf("custom weights %v after %v: a change %v, want %v", c.by, custom.ByExpert, got.Weights, c.change)
 		}
 	}
@@ -85,17 +105,17 @@ func TestPoolChangeSinceWeightZero(t *testing.T) {
 	p := AgreedPrior{Source: PriorFromPool, Pooled: []int64{11, 12, 13}, WeightSetID: 5}
 	for _, then := range []*Weights{nil, &set} {
 		// Expert 4 answered since (not named: weight 0); expert 3 (weight 0) revised.
-		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 14, 4: 15}, set, then, expertOf); c.Any() {
+		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 14, 4: 15}, set, then, expertOf, nil); c.Any() {
 			t.Errorf("then %v: experts weighed 0 answering and revising: %+v, want no change", then != nil, c)
 		}
 		// Expert 3 (weight 0) left.
-		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12}, set, then, expertOf); c.Any() {
+		if c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12}, set, then, expertOf, nil); c.Any() {
 			t.Errorf("then %v: an expert weighed 0 leaving: %+v, want no change", then != nil, c)
 		}
 	}
 	// Under other weights that give expert 4 a share, their answer is a change.
 	other := Weights{ID: 6, Scheme: WeightsCustom, ByExpert: map[int64]float64{1: 2, 2: 1, 3: 0, 4: 1}}
-	c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13, 4: 15}, other, &set, expertOf)
+	c, _ := p.PoolChangeSince(map[int64]int64{1: 11, 2: 12, 3: 13, 4: 15}, other, &set, expertOf, nil)
 	if fmt.Sprint(c.Revised, c.Joined, c.Left, c.Weights) != "[] [4] [] true" {
 		t.Errorf("expert 4 weighed in under other weights: %+v", c)
 	}

@@ -106,6 +106,10 @@ type PoolChange struct {
 	// Left are experts pooled then who are not now: their access was
 	// revoked (or their latest answer could not be fitted).
 	Left []int64
+	// Withdrawn are experts whose pooled judgement the facilitator has
+	// withdrawn since (entered against the wrong expert or question, or
+	// taken back): the prior rests on a judgement that is nobody's.
+	Withdrawn []int64
 	// Weights is set when another weight set is in force than the one
 	// the prior was agreed under.
 	Weights bool
@@ -113,7 +117,7 @@ type PoolChange struct {
 
 // Any reports whether the pool changed at all.
 func (c PoolChange) Any() bool {
-	return c.Weights || len(c.Revised) > 0 || len(c.Joined) > 0 || len(c.Left) > 0
+	return c.Weights || len(c.Revised) > 0 || len(c.Joined) > 0 || len(c.Left) > 0 || len(c.Withdrawn) > 0
 }
 
 // PoolChangeSince compares the pool prior p was agreed from with the
@@ -122,15 +126,18 @@ func (c PoolChange) Any() bool {
 // revision's ID, in are the weights in force, then the weight set in
 // force when p was agreed (the set whose ID is p.WeightSetID, equal
 // weights when it is 0; nil when the caller does not have it, and then
-// any other set in force counts as a change), and expertOf maps a
-// revision's ID to its expert's. An agreed prior keeps on standing for
+// any other set in force counts as a change), expertOf maps a
+// revision's ID to its expert's, and withdrawn holds the IDs of the
+// revisions withdrawn since (nil: none). A pooled judgement withdrawn is
+// named as such, not as a revision or a departure, whatever the expert's
+// answer now. An agreed prior keeps on standing for
 // the pool as it was; once the panel moves under it (an expert revises,
 // a late expert answers, one is revoked, the weights change), the pool
 // the panel shows is no longer the pool the prior represents, and the
 // pages say so rather than let the two be read as one. False when p is
 // not from the pool, or was agreed before Parley kept the revisions it
 // pooled, so nothing can be compared.
-func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weights, expertOf map[int64]int64) (PoolChange, bool) {
+func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weights, expertOf map[int64]int64, withdrawn map[int64]bool) (PoolChange, bool) {
 	if p.Source != PriorFromPool || len(p.Pooled) == 0 {
 		return PoolChange{}, false
 	}
@@ -162,6 +169,9 @@ func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weig
 	for e, rv := range pooled {
 		cur, ok := now[e]
 		switch {
+		case withdrawn[rv] && !nothingThen(e):
+			c.Withdrawn = append(c.Withdrawn, e)
+		case withdrawn[rv]:
 		case !ok && !nothingThen(e):
 			c.Left = append(c.Left, e)
 		case ok && cur != rv && !(nothingThen(e) && nothingNow(e)):
@@ -176,6 +186,7 @@ func (p AgreedPrior) PoolChangeSince(now map[int64]int64, in Weights, then *Weig
 	slices.Sort(c.Revised)
 	slices.Sort(c.Joined)
 	slices.Sort(c.Left)
+	slices.Sort(c.Withdrawn)
 	switch {
 	case in.ID == p.WeightSetID:
 	case then == nil:
