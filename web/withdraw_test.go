@@ -2,6 +2,7 @@ package web
 
 import (
 	"context"
+	"encoding/csv"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -239,5 +240,49 @@ func TestPriorFromAPoolWithAWithdrawnJudgement(t *testing.T) {
 	lines := strings.Split(strings.TrimSpace(csv), "\n")
 	if len(lines) < 2 || !strings.HasSuffix(strings.TrimSpace(lines[1]), ",true") {
 		t.Errorf("priors.csv does not mark the prior's pool as changed:\n%s", csv)
+	}
+}
+
+// The report's history strikes a withdrawn judgement through with the
+// withdrawal's reason, and the revisions CSV marks it in its withdrawn
+// column (false for every other).
+func TestReportAndCSVMarkAWithdrawnJudgement(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	latest, _ := h.db.LatestRevisions(ctx, qs[0].ID, 1)
+	gone := latest[0]
+	why := "Read from the paper form of another expert (invented)."
+	if res, body := h.post(withdrawPath(ws.ID, qs[0].ID, gone.ID), url.Values{"reason": {why}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw: %d %s", res.StatusCode, body)
+	}
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(report, "</s> (withdrawn ") || !strings.Contains(report, why) {
+		t.Error("the report's history does not mark the withdrawn judgement with its reason")
+	}
+	_, body := h.get(workshopPath(ws.ID) + "/export.csv")
+	rows, err := csv.NewReader(strings.NewReader(body)).ReadAll()
+	if err != nil {
+		t.Fatal(err)
+	}
+	col := map[string]int{}
+	for i, name := range rows[0] {
+		col[name] = i
+	}
+	c, ok := col["withdrawn"]
+	if !ok {
+		t.Fatalf("no withdrawn column in %v", rows[0])
+	}
+	marked := 0
+	for _, row := range rows[1:] {
+		want := "false"
+		if row[col["revision_id"]] == strconv.FormatInt(gone.ID, 10) {
+			want = "true"
+			marked++
+		}
+		if row[c] != want {
+			t.Errorf("revision %s: withdrawn %q, want %q", row[col["revision_id"]], row[c], want)
+		}
+	}
+	if marked != 1 {
+		t.Errorf("%d rows for the withdrawn revision, want 1", marked)
 	}
 }

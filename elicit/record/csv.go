@@ -17,7 +17,7 @@ var csvHeader = []string{
 	"revision_id", "round", "at", "entered_by", "channel", "reason", "format", "stated",
 	"alpha", "beta", "lower", "upper", "sse", "max_prob_error", "p05", "p50", "p95", "warnings",
 	"units", "stated_as_typed", "typed_unit",
-	"sheet_file", "sheet_row", "sheet_sha256",
+	"sheet_file", "sheet_row", "sheet_sha256", "withdrawn",
 }
 
 // WriteCSV writes one row per revision, oldest first. Stated values are
@@ -30,7 +30,9 @@ var csvHeader = []string{
 // the confidence's). The question's units are in "units". A revision read
 // from an answer sheet names the file, its row and the file's SHA-256
 // ("sheet_file", "sheet_row", "sheet_sha256"; workshop.SheetSources),
-// empty otherwise. Text that a
+// empty otherwise. "withdrawn" is true for a revision the facilitator
+// withdrew (nobody's answer; the decision log says why), false
+// otherwise. Text that a
 // spreadsheet would run as a formula is prefixed with an apostrophe.
 func (r Record) WriteCSV(w io.Writer) error {
 	questions := map[int64]workshop.Question{}
@@ -73,6 +75,7 @@ func (r Record) WriteCSV(w io.Writer) error {
 		} else {
 			row = append(row, "", "", "")
 		}
+		row = append(row, strconv.FormatBool(rv.Withdrawn))
 		if err := cw.Write(row); err != nil {
 			return err
 		}
