@@ -157,6 +157,15 @@ func TestRecordMatchesSchema(t *testing.T) {
 	if err := sch.Validate(doc); err != nil {
 		t.Fatalf("a revision with its answer sheet does not match the schema: %v", err)
 	}
+	// A withdrawn judgement says so, with its event's kind.
+	doc = asJSONValue(t, buildInvented(t)).(map[string]any)
+	doc["revisions"].([]any)[0].(map[string]any)["withdrawn"] = true
+	doc["events"] = append(doc["events"].([]any), map[string]any{"id": json.Number("9999"), "workshop_id": doc["workshop"].(map[string]any)["id"],
+		"question_id": doc["revisions"].([]any)[0].(map[string]any)["question_id"], "kind": "revision_withdrawn",
+		"at": "2026-01-01T00:00:00Z", "reason": "entered against the wrong expert (invented)", "detail": `{"revision_id":1,"expert_id":1,"round":1}`})
+	if err := sch.Validate(doc); err != nil {
+		t.Fatalf("a withdrawn revision and its event do not match the schema: %v", err)
+	}
 	// A workshop with nothing in it yet is a valid record too.
 	empty, err := Build(workshop.Snapshot{Workshop: workshoptest.PumpSeals().Workshop,
 		Weights: workshop.Weights{WorkshopID: 7, Scheme: workshop.WeightsEqual}}, t0)
