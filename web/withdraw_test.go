@@ -286,3 +286,24 @@ func TestReportAndCSVMarkAWithdrawnJudgement(t *testing.T) {
 		t.Errorf("%d rows for the withdrawn revision, want 1", marked)
 	}
 }
+
+// The entry page, where a judgement typed against the wrong expert is
+// seen first, offers to withdraw each of the expert's standing
+// judgements on the question, and no longer lists one withdrawn.
+func TestEntryPageOffersTheWithdrawal(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	ctx := context.Background()
+	latest, _ := h.db.LatestRevisions(ctx, qs[0].ID, 1)
+	rv := latest[0]
+	entry := entryPath(ws.ID, qs[0].ID, rv.ExpertID)
+	page := withdrawPath(ws.ID, qs[0].ID, rv.ID)
+	if _, body := h.get(entry); !strings.Contains(body, `href="`+page+`"`) {
+		t.Fatalf("the entry page does not offer to withdraw revision %d", rv.ID)
+	}
+	if res, body := h.post(page, url.Values{"reason": {"Entered against the wrong expert (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw: %d %s", res.StatusCode, body)
+	}
+	if _, body := h.get(entry); strings.Contains(body, `href="`+page+`"`) {
+		t.Error("the entry page still lists the withdrawn judgement")
+	}
+}
