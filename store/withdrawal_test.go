@@ -177,6 +177,33 @@ func TestWithdrawalRoundTrip(t *testing.T) {
 		t.Fatalf("the copy's withdrawal reason %q", reason)
 	}
 
+	// Imported again beside the original, every row numbered anew: the
+	// copy's withdrawal names the copy's own revision.
+	again, err := src.Import(ctx, rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	copyRec, err := src.Record(ctx, again, exportTime)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var copied []int64
+	for _, rv := range copyRec.Revisions {
+		if rv.Withdrawn {
+			copied = append(copied, rv.ID)
+		}
+	}
+	if len(copied) != 1 || copied[0] == wrong.ID {
+		t.Fatalf("the renumbered copy's withdrawn revisions %v (the original's %d)", copied, wrong.ID)
+	}
+	if _, err := record.Parse(bytes.NewReader(exportJSON(t, src, again))); err != nil {
+		t.Fatalf("the renumbered copy's record: %v", err)
+	}
+	copyLatest, _ := src.LatestRevisions(ctx, copyRec.Questions[0].ID, 1)
+	if len(copyLatest) != 1 || copyLatest[0].ID == copied[0] {
+		t.Fatalf("the renumbered copy's current answers %+v", copyLatest)
+	}
+
 	// The flag removed: the revision's events still withdraw it.
 	unmarked := bytes.Replace(first, []byte(`"withdrawn": true`), []byte(`"withdrawn": false`), 1)
 	if _, err := record.Parse(bytes.NewReader(unmarked)); err == nil || !strings.Contains(err.Error(), ".withdrawn") {

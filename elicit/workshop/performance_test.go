@@ -502,3 +502,42 @@ func TestScoringErrorPlacesTheRefusal(t *testing.T) {
 		t.Errorf("placed at question %d, expert %d, quantile %d; want 102, 0, -1", se.QuestionID, se.ExpertID, se.Quantile)
 	}
 }
+
+// A calibration answer withdrawn before the reveal is not scored: the
+// expert's earlier answer is, or, with none, the expert has not answered.
+func TestCalibrationSetLeavesWithdrawnAnswersOut(t *testing.T) {
+	src := workshoptest.ValveWear(false)
+	var mine []int
+	for i, rv := range src.Revisions {
+		if rv.ExpertID == 1 && rv.QuestionID == 102 {
+			mine = append(mine, i)
+		}
+	}
+	if len(mine) < 2 {
+		t.Fatalf("expert A answered seed 102 %d times in the fixture, want at least 2", len(mine))
+	}
+	last, before := mine[len(mine)-1], mine[len(mine)-2]
+	src.Revisions[last].Withdrawn = true
+	set := workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	found := false
+	for _, a := range set.Assessments {
+		if a.Expert == workshop.SeedExpertKey(1) && a.Question == workshop.SeedQuestionKey(102) {
+			found = true
+			if !slices.Equal(a.Quantiles, src.Revisions[before].Answer.Values) {
+				t.Errorf("A on seed 102 uses %v, want the answer before the withdrawn one, %v", a.Quantiles, src.Revisions[before].Answer.Values)
+			}
+		}
+	}
+	if !found {
+		t.Error("A's earlier answer to seed 102 is not scored")
+	}
+	for _, i := range mine {
+		src.Revisions[i].Withdrawn = true
+	}
+	set = workshop.NewCalibrationSet(src.Questions, src.Experts, src.Revisions, false)
+	for _, e := range set.Answered[102] {
+		if e.ID == 1 {
+			t.Error("A, every answer to seed 102 withdrawn, counts as having answered it")
+		}
+	}
+}
