@@ -225,3 +225,50 @@ func TestForQuestionKeepsTheEvidenceBehindItsWeights(t *testing.T) {
 		t.Errorf("%d revisions (%d on the target), want the target's 3 and the %d scored", len(one.Revisions), target, len(b.CalibrationAnswers))
 	}
 }
+
+// A withdrawn answer to a calibration question the basis did not score:
+// one question's record leaves the revision out, and its withdrawal's
+// event with it, so the narrowed record still reads back (a withdrawal
+// naming a revision the record lacks is refused).
+func TestForQuestionLeavesOutTheWithdrawalOfARevisionItLeavesOut(t *testing.T) {
+	src, b := basisWorkshop(t, true)
+	scored := map[int64]bool{}
+	for _, a := range b.CalibrationAnswers {
+		scored[a.RevisionID] = true
+	}
+	var extra workshop.Revision
+	var top int64
+	for _, rv := range src.Revisions {
+		top = max(top, rv.ID)
+		if scored[rv.ID] && extra.ID == 0 {
+			extra = rv
+		}
+	}
+	extra.ID, extra.Withdrawn, extra.At, extra.Kept = top+1, true, extra.At.Add(time.Minute), nil
+	src.Revisions = append(src.Revisions, extra)
+	src.Events = append(src.Events, workshop.Event{ID: 1, WorkshopID: 9, QuestionID: extra.QuestionID, Kind: workshop.EventRevisionWithdrawn,
+		At: extra.At.Add(time.Minute), Reason: "entered against the wrong expert (invented)",
+		Detail: fmt.Sprintf(`{"revision_id":%d,"expert_id":%d,"round":%d}`, extra.ID, extra.ExpertID, extra.Round)})
+	rec, err := Build(src, t0)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := rec.CheckDefinitions(); err != nil {
+		t.Fatalf("the whole record: %v", err)
+	}
+	one, err := rec.ForQuestion(101)
+	if err != nil {
+		t.Fatal(err)
+	}
+	for _, rv := range one.Revisions {
+		if rv.ID == extra.ID {
+			t.Fatalf("one question's record keeps the withdrawn revision %d, which its basis did not score", extra.ID)
+		}
+	}
+	if err := one.CheckDefinitions(); err != nil {
+		t.Fatalf("one question's record: %v", err)
+	}
+	if err := one.Validate(); err != nil {
+		t.Fatalf("one question's record is not valid on its own: %v", err)
+	}
+}

@@ -440,7 +440,8 @@ func FitOf(f elicit.Fit) *Fit {
 // calibration questions their bases scored or left out with their
 // events, the revisions they scored, and the revision each such
 // question's freeze names), so the narrowed record still reproduces the
-// question's pools and reads back.
+// question's pools and reads back. A withdrawal's event goes with its
+// revision, and is left out with it.
 func (r Record) ForQuestion(id int64) (Record, error) {
 	out := r
 	out.Questions, out.Revisions, out.Events, out.StudyData = nil, nil, nil, []workshop.StudyData{}
@@ -478,9 +479,14 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 			}
 		}
 	}
+	kept, withdrawnBy := map[int64]bool{}, map[int64]int64{} // withdrawal event's id → its revision
+	for rev, e := range workshop.Withdrawals(r.Events) {
+		withdrawnBy[e.ID] = rev
+	}
 	for _, rv := range r.Revisions {
 		if rv.QuestionID == id || keepR[rv.ID] {
 			out.Revisions = append(out.Revisions, rv)
+			kept[rv.ID] = true
 		}
 	}
 	// The data recorded against the kept questions: another question's
@@ -494,6 +500,12 @@ func (r Record) ForQuestion(id int64) (Record, error) {
 	for _, e := range r.Events {
 		// The kept questions' events too: the decisions on the evidence
 		// (a scored answer's reason withheld, a reveal) go with it.
+		// A withdrawal goes with its revision: one the narrowed record
+		// leaves out (an answer to a calibration question the weights
+		// did not score) would be named by its event alone.
+		if rev, ok := withdrawnBy[e.ID]; ok && e.Kind == workshop.EventRevisionWithdrawn && !kept[rev] {
+			continue
+		}
 		if e.QuestionID == 0 || keepQ[e.QuestionID] {
 			out.Events = append(out.Events, e)
 		}
