@@ -204,6 +204,17 @@ func TestWithdrawalRoundTrip(t *testing.T) {
 		t.Fatalf("the renumbered copy's current answers %+v", copyLatest)
 	}
 
+	// The withdrawal's row removed in SQLite behind the triggers: the
+	// export still carries its event, and is refused naming the flag.
+	for _, stmt := range []string{`DROP TRIGGER withdrawals_no_delete`, `DELETE FROM withdrawals`} {
+		if _, err := dst.w.ExecContext(ctx, stmt); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if _, err := record.Parse(bytes.NewReader(exportJSON(t, dst, id))); err == nil || !strings.Contains(err.Error(), ".withdrawn") {
+		t.Fatalf("a record exported after its withdrawal row was deleted: %v", err)
+	}
+
 	// The flag removed: the revision's events still withdraw it.
 	unmarked := bytes.Replace(first, []byte(`"withdrawn": true`), []byte(`"withdrawn": false`), 1)
 	if _, err := record.Parse(bytes.NewReader(unmarked)); err == nil || !strings.Contains(err.Error(), ".withdrawn") {

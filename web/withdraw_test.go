@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -234,6 +235,14 @@ func TestPriorFromAPoolWithAWithdrawnJudgement(t *testing.T) {
 	for _, path := range []string{qp, workshopPath(ws.ID) + "/report"} {
 		if _, body := h.get(path); !strings.Contains(body, want) {
 			t.Errorf("%s does not say %q", path, want)
+		}
+	}
+	// The record reads back, fits and pools checked, with the prior's
+	// pooled judgement marked withdrawn; so does the question's own.
+	for _, path := range []string{workshopPath(ws.ID) + "/export.json", qp + "/export.json"} {
+		_, js := h.get(path)
+		if _, err := record.ParseChecked(strings.NewReader(js)); err != nil {
+			t.Errorf("%s does not read back: %v", path, err)
 		}
 	}
 	_, csv := h.get(workshopPath(ws.ID) + "/priors.csv")
