@@ -75,6 +75,12 @@ func TestWithdrawFromTheHistory(t *testing.T) {
 	if strings.Contains(panel, `href="`+page+`"`) {
 		t.Error("the history still offers to withdraw the withdrawn judgement")
 	}
+	// Above the history, the panel (its table of judgements, the pool)
+	// knows the withdrawn values no more.
+	above := panel[:strings.Index(panel, `<section id="history"`)]
+	if strings.Contains(above, "0.1719") {
+		t.Error("the panel above the history still shows the withdrawn judgement's values")
+	}
 	if _, log := h.get(workshopPath(ws.ID) + "/log"); !strings.Contains(log, "Judgement withdrawn") || !strings.Contains(log, why) ||
 		!strings.Contains(log, "judgement of round 1") {
 		t.Error("the decision log does not record the withdrawal with its reason")
