@@ -33,12 +33,13 @@ const (
 )
 
 // CheckWithdrawal reports whether revision rv, an answer to question q of
-// workshop w (the caller has found it there), may be withdrawn with the given reason: the reason is required, the
-// workshop must not be archived, the revision not already withdrawn, and
-// the question not a calibration question whose true value has been
-// shown (its answers were scored as they stood at the reveal). A
-// withdrawal of a revision of an earlier round is allowed: it corrects
-// the panel that round's feedback shows from then on.
+// workshop w (the caller has found it there), may be withdrawn with the
+// given reason: the reason is required, the workshop must not be
+// archived, the revision not already withdrawn, and the question not a
+// calibration question whose true value has been shown (its answers were
+// scored as they stood at the reveal). A revision of an earlier round may
+// be withdrawn: the panel that round's feedback shows is corrected from
+// then on.
 func CheckWithdrawal(w Workshop, q Question, rv Revision, reason string) error {
 	switch {
 	case strings.TrimSpace(reason) == "":
