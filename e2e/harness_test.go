@@ -65,7 +65,14 @@ type demo struct {
 // startDemo starts a site and seeds the invented demo workshop on it.
 func startDemo(t *testing.T) (*site, demo) {
 	t.Helper()
-	s := startSite(t)
+	return startDemoWith(t, web.Options{})
+}
+
+// startDemoWith is startDemo with the server's options (a shorter
+// heartbeat, say).
+func startDemoWith(t *testing.T, opt web.Options) (*site, demo) {
+	t.Helper()
+	s := startSiteWith(t, opt)
 	ctx := context.Background()
 	links, err := web.SeedDemo(ctx, s.DB)
 	if err != nil {
@@ -89,6 +96,12 @@ func startDemo(t *testing.T) (*site, demo) {
 // secret the way `parley serve` does, and serves it on 127.0.0.1:0.
 func startSite(t *testing.T) *site {
 	t.Helper()
+	return startSiteWith(t, web.Options{})
+}
+
+// startSiteWith is startSite with the server's options.
+func startSiteWith(t *testing.T, opt web.Options) *site {
+	t.Helper()
 	db, err := store.Open(filepath.Join(t.TempDir(), "parley.db"))
 	if err != nil {
 		t.Fatalf("open store: %v", err)
@@ -97,7 +110,7 @@ func startSite(t *testing.T) *site {
 	if err != nil || secret == "" {
 		t.Fatalf("facilitator secret: %q, %v", secret, err)
 	}
-	srv, err := web.New(db, web.Options{})
+	srv, err := web.New(db, opt)
 	if err != nil {
 		t.Fatalf("web.New: %v", err)
 	}

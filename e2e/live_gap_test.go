@@ -67,7 +67,13 @@ func priyaSaves(t *testing.T, site *site, d demo, values ...string) {
 // priyaSavesTo posts Priya's answer to q.
 func priyaSavesTo(t *testing.T, site *site, d demo, q workshop.Question, values ...string) {
 	t.Helper()
-	form := url.Values{"reason": {"Line audits (invented)."}}
+	priyaSavesWith(t, site, d, q, "Line audits (invented).", values...)
+}
+
+// priyaSavesWith posts Priya's answer to q with the reason given.
+func priyaSavesWith(t *testing.T, site *site, d demo, q workshop.Question, reason string, values ...string) {
+	t.Helper()
+	form := url.Values{"reason": {reason}}
 	for i, v := range values {
 		form.Set("values["+strconv.Itoa(i)+"]", v)
 	}
@@ -206,7 +212,7 @@ func TestLivePageResumesAfterSigningInAgain(t *testing.T) {
 		for _, p := range []*person{fac, panel} {
 			p.waitFor("the stream refused", `document.documentElement.getAttribute("data-live") === "stopped"`)
 		}
-		panel.sees("the panel whose stream was refused", "But not at the moment: the server refused this page its live changes")
+		panel.sees("the panel whose stream was refused", "Not following the workshop since ")
 		shots.part(panel, "p.live-status", "live-stopped-panel-"+mode)
 		signInAnew(t, site, fac.tab("signing in again"))
 		updated := eval[string](fac, "the room's last update", `String(document.documentElement.getAttribute("data-live-updated"))`)

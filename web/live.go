@@ -164,8 +164,16 @@ func (h *liveHub) close() {
 // need not wait for them; wire it to http.Server.RegisterOnShutdown.
 func (s *Server) EndStreams() { s.live.close() }
 
-// heartbeat is how often an idle stream sends a comment, so that the
-// browser and anything between notice a dead connection.
+// heartbeat is how often an idle stream says it is still there, by
+// default (Options.Heartbeat). It is a named event, "beat", not an SSE
+// comment: a connection left dead by a laptop's sleep (or a network that
+// dropped it without a word) looks open to EventSource for as long as
+// nothing is written to it, and the page said it followed the workshop
+// while it heard nothing. A comment never reaches the page's script; the
+// event does, and a page that hears nothing for a little over two beats
+// (static/live.js, silentAfter) says it stopped following and opens its
+// stream again. Each beat carries the workshop's count of changes, as
+// hello does.
 const heartbeat = 20 * time.Second
 
 // streamWriteLimit is how long one write to a stream may wait for its
@@ -208,13 +216,17 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	h.Set("Content-Type", "text/event-stream; charset=utf-8")
 	h.Set("X-Accel-Buffering", "no")
 	w.WriteHeader(http.StatusOK)
+	// hello says the count as the stream opens and how often beats come
+	// (in ms), from which the page knows how long a silence means a dead
+	// connection.
 	hello, _ := json.Marshal(struct {
 		Version string `json:"version"`
-	}{version})
+		Beat    int64  `json:"beat"`
+	}{version, s.opt.Heartbeat.Milliseconds()})
 	if !send("retry: 2000\n: Parley live changes of workshop %d\n\nevent: hello\ndata: %s\n\n", ws.ID, hello) {
 		return
 	}
-	tick := time.NewTicker(heartbeat)
+	tick := time.NewTicker(s.opt.Heartbeat)
 	defer tick.Stop()
 	for {
 		select {
@@ -226,7 +238,10 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 			if !s.stillSignedIn(r) {
 				return
 			}
-			if !send(": still here\n\n") {
+			beat, _ := json.Marshal(struct {
+				Version string `json:"version"`
+			}{s.live.version(ws.ID)})
+			if !send("event: beat\ndata: %s\n\n", beat) {
 				return
 			}
 		case ev := <-ch:

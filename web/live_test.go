@@ -21,6 +21,14 @@ type stream struct {
 	res    *http.Response
 	events chan liveEvent
 	hello  chan string // the version the stream opened at
+	beats  chan liveBeat
+}
+
+// liveBeat is a heartbeat as a stream sends it: the version, and the
+// interval hello announced.
+type liveBeat struct {
+	Version string
+	Every   time.Duration // from hello's "beat"
 }
 
 // openStream opens GET path as the harness's client (with its cookies).
@@ -38,20 +46,33 @@ func (h *harness) openStream(t *testing.T, path string) (*http.Response, *stream
 	if res.StatusCode != http.StatusOK {
 		return res, nil
 	}
-	st := &stream{res: res, events: make(chan liveEvent, 64), hello: make(chan string, 1)}
+	st := &stream{res: res, events: make(chan liveEvent, 64), hello: make(chan string, 1), beats: make(chan liveBeat, 64)}
 	go func() {
 		defer close(st.events)
 		sc := bufio.NewScanner(res.Body)
 		var kind string
+		var every time.Duration
 		for sc.Scan() {
 			line := sc.Text()
 			switch {
 			case strings.HasPrefix(line, "event: "):
 				kind = strings.TrimPrefix(line, "event: ")
 			case strings.HasPrefix(line, "data: ") && kind == "hello":
-				var hello struct{ Version string }
+				var hello struct {
+					Version string
+					Beat    int64
+				}
 				if json.Unmarshal([]byte(strings.TrimPrefix(line, "data: ")), &hello) == nil {
+					every = time.Duration(hello.Beat) * time.Millisecond
 					st.hello <- hello.Version
+				}
+			case strings.HasPrefix(line, "data: ") && kind == "beat":
+				b := liveBeat{Every: every}
+				if json.Unmarshal([]byte(strings.TrimPrefix(line, "data: ")), &b) == nil {
+					select {
+					case st.beats <- b:
+					default:
+					}
 				}
 			case strings.HasPrefix(line, "data: ") && kind == "change":
 				var ev liveEvent
@@ -392,5 +413,50 @@ func TestStreamOutlivesTheServersTimeouts(t *testing.T) {
 	}
 	if ev := st.next(t, 2*time.Second, "a save after the server's timeouts passed"); ev.Kind != "save" {
 		t.Errorf("the stream's next event is %+v", ev)
+	}
+}
+
+// A stream's heartbeat was an SSE comment, which a page's script never
+// sees: a connection left dead by a laptop's sleep looked open, and the
+// page said it followed the workshop while it heard nothing. The beat is
+// a named event the page listens for, at the interval hello announces,
+// and it carries the workshop's count of changes, so a page behind the
+// count fetches itself.
+func TestStreamBeatsAsAnEventThePageHears(t *testing.T) {
+	h, ws, _, _, _ := seeded(t)
+	srv, err := New(h.db, Options{Heartbeat: 50 * time.Millisecond})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(srv.Handler())
+	t.Cleanup(ts.Close)
+	h.ts = ts // the harness's cookies are the host's, whatever its port
+	_, st := h.openStream(t, workshopPath(ws.ID)+"/events")
+	if st == nil {
+		t.Fatal("the stream was refused")
+	}
+	opened := <-st.hello
+	next := func(what string) liveBeat {
+		t.Helper()
+		select {
+		case b := <-st.beats:
+			return b
+		case <-time.After(5 * time.Second):
+			t.Fatalf("%s: no beat within 5 s of a stream beating every 50 ms", what)
+		}
+		return liveBeat{}
+	}
+	if b := next("an idle stream"); b.Version != opened || b.Every != 50*time.Millisecond {
+		t.Errorf("a beat says version %q every %v; want %q every 50ms", b.Version, b.Every, opened)
+	}
+	srv.live.publish(ws.ID, "save")
+	ev := st.next(t, 2*time.Second, "a change")
+	for deadline := time.Now().Add(5 * time.Second); ; {
+		if b := next("after a change"); b.Version == ev.Version {
+			break
+		}
+		if time.Now().After(deadline) {
+			t.Fatalf("no beat carries the version %q of the change", ev.Version)
+		}
 	}
 }

@@ -47,6 +47,10 @@ type Options struct {
 	// SaveBurst is how many answers an expert may save at once
 	// (preview_throttle.go); 0 means web.SaveBurst.
 	SaveBurst int
+	// Heartbeat is how often an idle event stream says it is still
+	// there (live.go); 0 means 20 s. A page that hears nothing for a
+	// little over two of them takes its stream for dead. Tests shorten it.
+	Heartbeat time.Duration
 }
 
 // Server serves one Parley database to facilitators and experts.
@@ -107,6 +111,9 @@ func New(st Store, opt Options) (*Server, error) {
 	}
 	if s.log == nil {
 		s.log = slog.Default()
+	}
+	if s.opt.Heartbeat <= 0 {
+		s.opt.Heartbeat = heartbeat
 	}
 	s.opt.BaseURL = strings.TrimRight(opt.BaseURL, "/")
 	s.handler = s.routes()

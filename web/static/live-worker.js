@@ -14,6 +14,15 @@ var dropped = false;
 // retryAfter is how long a refused stream waits before asking again, in ms.
 var retryAfter = 5000;
 var retry = null;
+// silentAfter is how long the stream may say nothing before it is taken
+// for dead, in ms: a little over two of the server's beats (hello says how
+// often they come), about 45 s. A connection left dead by a laptop's
+// sleep looks open to EventSource; the tabs said they followed the
+// workshop while they heard nothing. Such a stream is closed and opened
+// anew, the tabs told meanwhile ("silent"), and of a change once it is
+// back.
+var silentAfter = 45000;
+var quiet = null;
 
 function send(msg) {
   current = msg === "change" ? current : msg;
@@ -46,17 +55,46 @@ function start() {
   }
   var es = new EventSource(self.name);
   stream = es;
+  // alive notes that the stream spoke, and waits silentAfter for the next
+  // word.
+  function alive() {
+    if (quiet) { clearTimeout(quiet); }
+    quiet = setTimeout(function () {
+      quiet = null;
+      if (stream !== es) { return; }
+      es.close();
+      dropped = true;
+      send("silent");
+      start();
+    }, silentAfter);
+  }
+  alive();
   es.addEventListener("change", function (e) {
+    alive();
     version = versionIn(e.data) || version;
     send("change");
   });
   es.addEventListener("hello", function (e) {
+    alive();
     version = versionIn(e.data);
+    try {
+      var beat = JSON.parse(e.data).beat;
+      if (beat > 0) { silentAfter = Math.round(2.25 * beat); alive(); }
+    } catch (err) { /* the last interval heard stands */ }
     if (version) {
       ports.forEach(function (p) { p.postMessage("version " + version); });
     }
   });
+  es.addEventListener("beat", function (e) {
+    alive();
+    var v = versionIn(e.data);
+    if (v && v !== version) {
+      version = v;
+      ports.forEach(function (p) { p.postMessage("version " + version); });
+    }
+  });
   es.addEventListener("open", function () {
+    alive();
     send("connected");
     if (dropped) {
       dropped = false;
@@ -72,6 +110,7 @@ function start() {
     // Refused (the session ended, too many streams open, the server
     // stopping): EventSource does not ask again by itself, and the tabs
     // stood still until one was reloaded. Ask again in a while.
+    if (quiet) { clearTimeout(quiet); quiet = null; }
     send("stopped");
     if (!retry) {
       retry = setTimeout(function () {

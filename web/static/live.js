@@ -208,10 +208,11 @@
   // line (.live-status): the panel's and the overview's say they follow
   // changes, the room view's says nothing while all is well. A stream
   // refused (the session ended, too many streams, the server stopping)
-  // is said at once; one trying to reach the server again (the server
-  // restarted or down, the network dropped) once it has tried for
-  // staleAfter ms, so that a short break shows nothing. The projector
-  // stood silently stale: its room view had no status line.
+  // is said at once, and so is one found silent (see silentAfter); one
+  // trying to reach the server again (the server restarted or down, the
+  // network dropped) once it has tried for staleAfter ms, so that a short
+  // break shows nothing. The projector stood silently stale: its room
+  // view had no status line.
   var staleAfter = 10000;
   var stale = null;
   var since = null;
@@ -231,7 +232,7 @@
         if (current === "reconnecting") { notice(true); }
       }, staleAfter);
     }
-    notice(s === "stopped");
+    notice(s === "stopped" || s === "silent");
   }
 
   // notice shows the words that the page does not follow the workshop,
@@ -254,8 +255,8 @@
     }
     if (note || !line) { return; }
     var words = line.getAttribute("data-live-stopped") ||
-      " But not at the moment: the server refused this page its live changes (signed out, or too many live pages open), or cannot be reached. " +
-      "It asks again every few seconds; sign in again if you were signed out.";
+      "Not following the workshop since {since}: this page may be out of date. " +
+      "It asks the server again every few seconds and catches up by itself; if you were signed out, sign in again.";
     var hhmm = ("0" + since.getHours()).slice(-2) + ":" + ("0" + since.getMinutes()).slice(-2);
     note = document.createElement("strong");
     note.id = "live-stopped";
@@ -271,6 +272,22 @@
     }
   }
 
+  // silentAfter is how long a stream may say nothing before it is taken
+  // for dead, in ms: a little over two of the server's beats (hello says
+  // how often they come), about 45 s. A connection left dead by a
+  // laptop's sleep, or dropped by the network without a word, looks open
+  // to EventSource, and the page said it followed the workshop while it
+  // heard nothing. Such a stream is closed and opened anew; meanwhile the
+  // page says it does not follow, and once the stream is back it fetches
+  // what changed. As in live-worker.js.
+  var silentAfter = 45000;
+  function beatsOf(data) {
+    try {
+      var beat = JSON.parse(data).beat;
+      if (beat > 0) { silentAfter = Math.round(2.25 * beat); }
+    } catch (err) { /* the last interval heard stands */ }
+  }
+
   // One stream per browser, not per tab: over plain HTTP a browser keeps
   // at most six connections to a server, and every open stream holds
   // one, so six live tabs (the overview, the projector's room view, a
@@ -278,14 +295,34 @@
   // A shared worker (live-worker.js) holds the workshop's one stream and
   // passes its news to every tab; where there is none, the page holds
   // its own stream.
-  function direct() {
+  function direct(again) {
     var stream = new EventSource(url);
-    var dropped = false;
-    stream.addEventListener("change", function () { schedule(); });
+    var dropped = !!again;
+    var quiet = null;
+    // alive notes that the stream spoke, and waits silentAfter for the
+    // next word.
+    function alive() {
+      if (quiet) { window.clearTimeout(quiet); }
+      quiet = window.setTimeout(function () {
+        quiet = null;
+        stream.close();
+        state("silent");
+        direct(true);
+      }, silentAfter);
+    }
+    alive();
+    stream.addEventListener("change", function () { alive(); schedule(); });
     stream.addEventListener("hello", function (e) {
+      beatsOf(e.data);
+      alive();
       try { heard(JSON.parse(e.data).version); } catch (err) { schedule(); }
     });
+    stream.addEventListener("beat", function (e) {
+      alive();
+      try { heard(JSON.parse(e.data).version); } catch (err) { /* a beat says nothing new */ }
+    });
     stream.addEventListener("open", function () {
+      alive();
       state("connected");
       if (dropped) {
         dropped = false;
@@ -299,6 +336,7 @@
         return;
       }
       // Refused: EventSource does not ask again by itself.
+      if (quiet) { window.clearTimeout(quiet); quiet = null; }
       state("stopped");
       window.setTimeout(direct, retryAfter);
     });
@@ -327,6 +365,7 @@
       case "connected":
       case "reconnecting":
       case "stopped":
+      case "silent":
         state(m.data);
         break;
       case "unsupported":
