@@ -50,14 +50,25 @@
     });
   }
 
-  // A part left as it was is brought up to date once the focus moves
-  // on (a part still holding changed fields is left again).
-  var held = false;
+  // A part left as it was (held, by id) is brought up to date once the
+  // focus moves on and leaves it free: not one still holding changed
+  // fields, nor one showing a refused form's message, which stays until
+  // the form is sent again. Each blur fetched the page again while such
+  // a part was held, and found it held again. The focus has not landed
+  // yet while focusout runs, so it is looked at a moment later.
+  var held = [];
   document.addEventListener("focusout", function () {
-    if (held) {
-      held = false;
-      schedule();
-    }
+    if (!held.length) { return; }
+    window.setTimeout(function () {
+      var freed = held.some(function (id) {
+        var el = document.getElementById(id);
+        return el && !atWork(el);
+      });
+      if (freed) {
+        held = [];
+        schedule();
+      }
+    }, 0);
   });
 
   // focusable lists what the keyboard can reach in el, in page order.
@@ -149,10 +160,11 @@
         var marked = doc.querySelector("[data-live-src]");
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         var place = placeOnScreen();
+        held = [];
         Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
           var fresh = el.id && doc.getElementById(el.id);
           if (fresh && atWork(el)) {
-            held = true;
+            held.push(el.id);
           } else if (fresh) {
             replace(el, document.importNode(fresh, true));
           }
