@@ -361,7 +361,7 @@ func TestRosterLinksRevokeAndReissue(t *testing.T) {
 	}
 	// One reason box per row serves both actions.
 	rosterRow := func(body string) string {
-		i := strings.Index(body, `<section id="roster">`)
+		i := strings.Index(body, `<section id="roster"`)
 		j := strings.Index(body[max(i, 0):], "<tbody>")
 		if i < 0 || j < 0 {
 			t.Fatal("no roster table")

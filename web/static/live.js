@@ -35,6 +35,12 @@
     if (el.querySelector(".form-error, .field-error")) {
       return true;
     }
+    // A fold the facilitator opened (the details' form, the agreed
+    // prior's quick construction) stays open: replaced, it closed under
+    // the reader.
+    if (el.querySelector("details[data-opened-here][open]")) {
+      return true;
+    }
     var a = document.activeElement;
     if (a && a !== document.body && el.contains(a) &&
       (a.tagName === "INPUT" || a.tagName === "TEXTAREA" || a.tagName === "SELECT" || a.tagName === "BUTTON")) {
@@ -44,11 +50,27 @@
       if (f.type === "hidden") { return false; }
       if (f.type === "checkbox" || f.type === "radio") { return f.checked !== f.defaultChecked; }
       if (f.tagName === "SELECT") {
-        return Array.prototype.some.call(f.options, function (o) { return o.selected !== o.defaultSelected; });
+        if (f.multiple) {
+          return Array.prototype.some.call(f.options, function (o) { return o.selected !== o.defaultSelected; });
+        }
+        // A choice that names no default comes with its first option:
+        // compared option by option, it counted as changed from the
+        // start, and the panel's choice of expert held its part for good.
+        var first = 0;
+        Array.prototype.forEach.call(f.options, function (o, i) { if (o.defaultSelected) { first = i; } });
+        return f.selectedIndex !== first;
       }
       return f.value !== f.defaultValue;
     });
   }
+
+  // Folds opened by the facilitator's own hand, for atWork.
+  document.addEventListener("click", function (e) {
+    var summary = e.target.closest && e.target.closest("summary");
+    if (summary && summary.parentElement && summary.parentElement.tagName === "DETAILS") {
+      summary.parentElement.setAttribute("data-opened-here", "");
+    }
+  });
 
   // A part left as it was (held, by id) is brought up to date once the
   // focus moves on and leaves it free: not one still holding changed
