@@ -1,6 +1,7 @@
 package e2e
 
 import (
+	"context"
 	"fmt"
 	"strconv"
 	"testing"
@@ -121,4 +122,47 @@ func jsState(vals ...any) string {
 		s += fmt.Sprintf("%s: %v", vals[n+i], vals[i])
 	}
 	return s + "}"
+}
+
+// TestEmptyWorkshopOverviewFollowsALiveChange: the overview of a new
+// workshop, without an expert or a question yet, held no stream (its
+// status line lived in the table of who answered what), so an expert
+// added or the workshop archived in another tab never reached it.
+func TestEmptyWorkshopOverviewFollowsALiveChange(t *testing.T) {
+	site := startSite(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 900, false)
+	fac.postFromPage("/workshops", "title=Empty+for+now+%28invented%29")
+	wss, err := site.DB.Workshops(context.Background())
+	if err != nil {
+		t.Fatal(err)
+	}
+	var address string
+	for _, w := range wss {
+		if w.Title == "Empty for now (invented)" {
+			address = site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
+		}
+	}
+	if address == "" {
+		t.Fatal("the new workshop was not saved")
+	}
+	fac.open(address + "/")
+	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	shots := newScreenshots(t)
+	shots.take(fac, "empty-overview-1366")
+	fac.viewport(phoneWidth, phoneHeight, true)
+	shots.take(fac, "empty-overview-390")
+	fac.viewport(1366, 900, false)
+	other := fac.tab("another tab")
+	other.open(address + "/")
+	other.postFromPage(address+"/experts", "name=Ada+Okafor+%28invented%29")
+	if err := fac.poll(liveWithin+3*time.Second, `document.getElementById("roster").innerText.includes("Ada Okafor (invented)")`); err != nil {
+		t.Errorf("the empty workshop's overview did not follow an expert added in another tab: %v", err)
+	}
+	other.postFromPage(address+"/archive", "action=archive&archive_reason=Made+by+mistake+%28invented%29.")
+	if err := fac.poll(liveWithin+3*time.Second, `document.getElementById("archived-live").innerText.includes("This workshop is archived")`); err != nil {
+		t.Errorf("the empty workshop's overview did not follow its archive in another tab: %v", err)
+	}
 }

@@ -460,3 +460,21 @@ func TestStreamBeatsAsAnEventThePageHears(t *testing.T) {
 		}
 	}
 }
+
+// An overview of a workshop without an expert or a question in use held
+// no event stream: its status line lived in the table of who answered
+// what, drawn only once there was one, so the page followed nothing (a
+// round closed, the workshop archived, the first expert added in another
+// tab). The line, and with it the stream, is there from the start.
+func TestOverviewOfAnEmptyWorkshopFollowsIt(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Empty for now (invented)")
+	_, body := h.get(workshopPath(ws.ID))
+	if !liveVersionAttr.MatchString(body) {
+		t.Fatal("the overview of a workshop without experts or questions opens no event stream (no data-live-src)")
+	}
+	if !strings.Contains(body, "this page follows the workshop; a table of who has answered what comes here once it has an expert and a question in use.") {
+		t.Error("the overview of an empty workshop does not say what it follows")
+	}
+}
