@@ -208,3 +208,43 @@ func (px *sleepyProxy) wake() {
 	defer px.mu.Unlock()
 	px.asleep = false
 }
+
+// TestLivePageNoticesASleepByTheWallClock: a laptop's sleep stops the
+// clock of a page's timers, not the wall clock, so a timer set to notice
+// silentAfter of silence fired up to that long after the laptop woke, the
+// page saying all the while that it followed the workshop. The silence
+// is measured on the wall clock, looked at every few seconds. Here the
+// page's wall clock jumps two minutes, as it does over a sleep, while its
+// stream is alive: the page takes the stream for dead at once, opens it
+// anew and follows again (a page's own stream; the shared worker's is the
+// same code).
+func TestLivePageNoticesASleepByTheWallClock(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.viewport(1366, 900, false)
+	fac.do("a browser without shared workers, and a wall clock to move", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{
+			Source: "delete window.SharedWorker; (() => { const real = Date.now; window.__skew = 0; Date.now = () => real() + window.__skew; })();"})
+		return err
+	}))
+	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
+	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	eval[bool](fac, "note the stream's states", `(() => {
+		window.__states = [];
+		new MutationObserver(() => window.__states.push(document.documentElement.getAttribute("data-live")))
+			.observe(document.documentElement, {attributes: true, attributeFilter: ["data-live"]});
+		return true;
+	})()`)
+	eval[bool](fac, "two minutes pass on the wall clock", `(window.__skew = 120000, true)`)
+	// The server beats every 20 s and the page allows 45 s of silence:
+	// only the wall clock can tell it within 15 s.
+	if err := fac.poll(15*time.Second, `window.__states.includes("silent")`); err != nil {
+		t.Fatalf("two minutes gone on the wall clock, the page did not take its stream for dead within 15 s (states %v): %v",
+			eval[[]string](fac, "states", `window.__states`), err)
+	}
+	if err := fac.poll(15*time.Second, `document.documentElement.getAttribute("data-live") === "connected" && !document.getElementById("live-stopped")`); err != nil {
+		t.Errorf("the page did not follow again after opening its stream anew: %v", err)
+	}
+}

@@ -55,18 +55,28 @@ function start() {
   }
   var es = new EventSource(self.name);
   stream = es;
-  // alive notes that the stream spoke, and waits silentAfter for the next
-  // word.
+  // The silence is measured on the wall clock, looked at every few
+  // seconds: a laptop's sleep stops the clock of the worker's timers, so a
+  // timer set for silentAfter fired up to silentAfter after it woke.
+  var heardAt = Date.now();
+  if (quiet) { clearInterval(quiet); }
+  quiet = setInterval(function () {
+    if (stream !== es) {
+      clearInterval(watch);
+      return;
+    }
+    if (Date.now() - heardAt < silentAfter) { return; }
+    clearInterval(watch);
+    quiet = null;
+    es.close();
+    dropped = true;
+    send("silent");
+    start();
+  }, Math.min(5000, silentAfter / 4));
+  var watch = quiet;
+  // alive notes that the stream spoke.
   function alive() {
-    if (quiet) { clearTimeout(quiet); }
-    quiet = setTimeout(function () {
-      quiet = null;
-      if (stream !== es) { return; }
-      es.close();
-      dropped = true;
-      send("silent");
-      start();
-    }, silentAfter);
+    heardAt = Date.now();
   }
   alive();
   es.addEventListener("change", function (e) {
@@ -79,7 +89,7 @@ function start() {
     version = versionIn(e.data);
     try {
       var beat = JSON.parse(e.data).beat;
-      if (beat > 0) { silentAfter = Math.round(2.25 * beat); alive(); }
+      if (beat > 0) { silentAfter = Math.round(2.25 * beat); }
     } catch (err) { /* the last interval heard stands */ }
     if (version) {
       ports.forEach(function (p) { p.postMessage("version " + version); });
@@ -110,7 +120,7 @@ function start() {
     // Refused (the session ended, too many streams open, the server
     // stopping): EventSource does not ask again by itself, and the tabs
     // stood still until one was reloaded. Ask again in a while.
-    if (quiet) { clearTimeout(quiet); quiet = null; }
+    if (quiet) { clearInterval(quiet); quiet = null; }
     send("stopped");
     if (!retry) {
       retry = setTimeout(function () {

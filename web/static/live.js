@@ -332,17 +332,22 @@
   function direct(again) {
     var stream = new EventSource(url);
     var dropped = !!again;
-    var quiet = null;
-    // alive notes that the stream spoke, and waits silentAfter for the
-    // next word.
+    // The silence is measured on the wall clock, looked at every few
+    // seconds: a laptop's sleep stops the clock of the page's timers, so
+    // a timer set for silentAfter fired up to silentAfter after it woke,
+    // the page saying all the while that it followed the workshop.
+    var heardAt = Date.now();
+    var quiet = window.setInterval(function () {
+      if (Date.now() - heardAt < silentAfter) { return; }
+      window.clearInterval(quiet);
+      quiet = null;
+      stream.close();
+      state("silent");
+      direct(true);
+    }, Math.min(5000, silentAfter / 4));
+    // alive notes that the stream spoke.
     function alive() {
-      if (quiet) { window.clearTimeout(quiet); }
-      quiet = window.setTimeout(function () {
-        quiet = null;
-        stream.close();
-        state("silent");
-        direct(true);
-      }, silentAfter);
+      heardAt = Date.now();
     }
     alive();
     stream.addEventListener("change", function () { alive(); schedule(); });
@@ -370,7 +375,7 @@
         return;
       }
       // Refused: EventSource does not ask again by itself.
-      if (quiet) { window.clearTimeout(quiet); quiet = null; }
+      if (quiet) { window.clearInterval(quiet); quiet = null; }
       state("stopped");
       window.setTimeout(direct, retryAfter);
     });
