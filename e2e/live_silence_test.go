@@ -226,15 +226,29 @@ func TestLivePageNoticesASleepByTheWallClock(t *testing.T) {
 	fac.viewport(1366, 900, false)
 	fac.do("a browser without shared workers, and a wall clock to move", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
 		_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{
-			Source: "delete window.SharedWorker; (() => { const real = Date.now; window.__skew = 0; Date.now = () => real() + window.__skew; })();"})
+			Source: `delete window.SharedWorker; (() => {
+				const Real = Date;
+				window.__skew = 0;
+				window.Date = class extends Real {
+					constructor(...a) { if (a.length === 0) { super(Real.now() + window.__skew); } else { super(...a); } }
+					static now() { return Real.now() + window.__skew; }
+				};
+			})();`})
 		return err
 	}))
 	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
 	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
 	eval[bool](fac, "note the stream's states", `(() => {
 		window.__states = [];
-		new MutationObserver(() => window.__states.push(document.documentElement.getAttribute("data-live")))
-			.observe(document.documentElement, {attributes: true, attributeFilter: ["data-live"]});
+		window.__notices = [];
+		new MutationObserver(() => {
+			window.__states.push(document.documentElement.getAttribute("data-live"));
+			const n = document.getElementById("live-stopped");
+			if (n) window.__notices.push(n.textContent);
+		}).observe(document.documentElement, {attributes: true, attributeFilter: ["data-live"], childList: true, subtree: true});
+		// The page last heard its stream within a beat (20 s) of now.
+		const hhmm = d => ("0" + d.getHours()).slice(-2) + ":" + ("0" + d.getMinutes()).slice(-2);
+		window.__heardAround = [hhmm(new Date(Date.now() - 21000)), hhmm(new Date())];
 		return true;
 	})()`)
 	eval[bool](fac, "two minutes pass on the wall clock", `(window.__skew = 120000, true)`)
@@ -243,6 +257,15 @@ func TestLivePageNoticesASleepByTheWallClock(t *testing.T) {
 	if err := fac.poll(15*time.Second, `window.__states.includes("silent")`); err != nil {
 		t.Fatalf("two minutes gone on the wall clock, the page did not take its stream for dead within 15 s (states %v): %v",
 			eval[[]string](fac, "states", `window.__states`), err)
+	}
+	// The notice gives the time the page last heard the workshop, not
+	// the time it noticed the silence (two minutes on).
+	if err := fac.poll(5*time.Second, `window.__notices.length > 0`); err != nil {
+		t.Fatalf("the page that took its stream for dead showed no notice: %v", err)
+	}
+	if !eval[bool](fac, "the notice's time", `window.__heardAround.some(t => window.__notices[0].includes("since " + t + ":"))`) {
+		t.Errorf("the notice reads %q; want the time the page last heard its stream, one of %v",
+			eval[string](fac, "the notice", `window.__notices[0]`), eval[[]string](fac, "times", `window.__heardAround`))
 	}
 	if err := fac.poll(15*time.Second, `document.documentElement.getAttribute("data-live") === "connected" && !document.getElementById("live-stopped")`); err != nil {
 		t.Errorf("the page did not follow again after opening its stream anew: %v", err)

@@ -70,7 +70,7 @@ function start() {
     quiet = null;
     es.close();
     dropped = true;
-    send("silent");
+    send("silent " + heardAt); // when it last spoke, for the tabs' notice
     start();
   }, Math.min(5000, silentAfter / 4));
   var watch = quiet;

@@ -251,14 +251,17 @@
   var stale = null;
   var since = null;
   var current = "";
-  function state(s) {
+  // at, for a stream found silent, is when it last spoke (ms on the wall
+  // clock): the notice said the time the silence was noticed, some 45 s
+  // after the page last heard of the workshop.
+  function state(s, at) {
     current = s;
     document.documentElement.setAttribute("data-live", s);
     if (s === "connected") {
       since = null;
       if (stale) { window.clearTimeout(stale); stale = null; }
     } else if (!since) {
-      since = new Date();
+      since = at ? new Date(at) : new Date();
     }
     if (s === "reconnecting" && !stale) {
       stale = window.setTimeout(function () {
@@ -342,7 +345,7 @@
       window.clearInterval(quiet);
       quiet = null;
       stream.close();
-      state("silent");
+      state("silent", heardAt);
       direct(true);
     }, Math.min(5000, silentAfter / 4));
     // alive notes that the stream spoke.
@@ -395,6 +398,10 @@
   worker.port.onmessage = function (m) {
     if (typeof m.data === "string" && m.data.indexOf("version ") === 0) {
       heard(m.data.slice("version ".length));
+      return;
+    }
+    if (typeof m.data === "string" && m.data.indexOf("silent ") === 0) {
+      state("silent", Number(m.data.slice("silent ".length)) || 0);
       return;
     }
     switch (m.data) {
