@@ -55,17 +55,18 @@ func TestArchiveFollowsALiveChange(t *testing.T) {
 		agree: !!document.querySelector('form[action$="/agree"]'),
 		enter: !!document.querySelector('form[action$="/enter"]'),
 		archivedWords: document.querySelector(".live-status").innerText.includes("The workshop is archived"),
+		banner: document.getElementById("question-state-live").innerText.includes("This workshop is archived: nothing in it can be changed until you bring it back"),
 	}))()`
 	type overviewState struct {
 		Banner, ArchiveForm, RestoreForm, AddQuestion, Correct, EditDetails, AddExpert, Revoke bool
 	}
 	type panelState struct {
-		Retire, Weights, Agree, Enter, ArchivedWords bool
+		Retire, Weights, Agree, Enter, ArchivedWords, Banner bool
 	}
 	openOverview := overviewState{ArchiveForm: true, AddQuestion: true, Correct: true, EditDetails: true, AddExpert: true, Revoke: true}
 	archivedOverview := overviewState{Banner: true, RestoreForm: true}
 	openPanel := panelState{Retire: true, Weights: true, Agree: true, Enter: true}
-	archivedPanel := panelState{ArchivedWords: true}
+	archivedPanel := panelState{ArchivedWords: true, Banner: true}
 	follows := func(what string, wantO overviewState, wantP panelState) {
 		t.Helper()
 		o := fmt.Sprintf(`JSON.stringify(%s) === JSON.stringify(%s)`, overviewOpen, jsState(wantO.Banner, wantO.ArchiveForm, wantO.RestoreForm, wantO.AddQuestion, wantO.Correct, wantO.EditDetails, wantO.AddExpert, wantO.Revoke,
@@ -73,8 +74,8 @@ func TestArchiveFollowsALiveChange(t *testing.T) {
 		if err := fac.poll(liveWithin+3*time.Second, o); err != nil {
 			t.Errorf("%s: the overview did not follow: it offers %+v, want %+v", what, eval[overviewState](fac, "the overview", overviewOpen), wantO)
 		}
-		p := fmt.Sprintf(`JSON.stringify(%s) === JSON.stringify(%s)`, panelOpen, jsState(wantP.Retire, wantP.Weights, wantP.Agree, wantP.Enter, wantP.ArchivedWords,
-			"retire", "weights", "agree", "enter", "archivedWords"))
+		p := fmt.Sprintf(`JSON.stringify(%s) === JSON.stringify(%s)`, panelOpen, jsState(wantP.Retire, wantP.Weights, wantP.Agree, wantP.Enter, wantP.ArchivedWords, wantP.Banner,
+			"retire", "weights", "agree", "enter", "archivedWords", "banner"))
 		if err := panel.poll(liveWithin+3*time.Second, p); err != nil {
 			t.Errorf("%s: the panel did not follow: it offers %+v, want %+v", what, eval[panelState](panel, "the panel", panelOpen), wantP)
 		}
