@@ -42,7 +42,7 @@ func TestLivePageSaysWhenItsStreamFallsSilent(t *testing.T) {
 		mode, page, notice, followed string
 		width, height                int64
 	}{
-		{"shared", via + "/q/" + q + "/room", "Reload the page to bring it back.",
+		{"shared", via + "/q/" + q + "/room", "if this stays, reload the page.",
 			`document.body.innerText.includes("4 of 4 experts have answered this question in round 1 so far.")`, 1366, 768},
 		{"direct", via + "/q/" + q, "It asks the server again every few seconds and catches up by itself",
 			`Array.from(document.querySelectorAll("#reasons li")).some(li => li.innerText.includes("Audits after a silence (invented)."))`, 1366, 900},

@@ -70,7 +70,7 @@ func TestRoomSaysWhenItStopsFollowing(t *testing.T) {
 	priyaSavesTo(t, site, d, q, "0.02", "0.05", "0.12")
 	fac.waitFor("the stream refused", `document.documentElement.getAttribute("data-live") === "stopped"`)
 	s := eval[roomStale](fac, "the notice once stopped", readRoomStale)
-	if !s.Shown || !strings.Contains(s.Text, "Not following the workshop since ") || !strings.Contains(s.Text, "Reload the page to bring it back.") {
+	if !s.Shown || !strings.Contains(s.Text, "Not following the workshop since ") || !strings.Contains(s.Text, "if this stays, reload the page.") {
 		t.Fatalf("the room whose stream was refused shows %q (drawn: %v); want that it does not follow the workshop, and to reload", s.Text, s.Shown)
 	}
 	// Read from the back of a room: on the screen, not over the keys'
@@ -151,7 +151,7 @@ func TestRoomSaysWhenItCannotReachTheServer(t *testing.T) {
 		t.Fatalf("the room that cannot reach its stream still says nothing after 15 s (the stream is %q): %v",
 			eval[string](fac, "the stream's state", `String(document.documentElement.getAttribute("data-live"))`), err)
 	}
-	if s := eval[roomStale](fac, "the notice", readRoomStale); !s.Shown || !strings.Contains(s.Text, "Reload the page to bring it back.") {
+	if s := eval[roomStale](fac, "the notice", readRoomStale); !s.Shown || !strings.Contains(s.Text, "if this stays, reload the page.") {
 		t.Errorf("the room that cannot reach its stream shows %q (drawn: %v)", s.Text, s.Shown)
 	}
 }
