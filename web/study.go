@@ -466,11 +466,30 @@ func planStudy(ctx context.Context, p planView) planView {
 	for _, c := range analyses {
 		names = append(names, c.Value)
 	}
+	names = append(names, ownAnalysis)
 	analysis := f.Choice("analysis", "", names...)
 	for _, c := range analyses {
 		// The prior planned under, chosen again, plays both parts.
 		if c.Value == analysis && c.Value != p.Chosen.Value {
 			p.Analysis = c
+		}
+	}
+	// A Beta of the lead's own (a sceptical prior, say): its α and β are
+	// read only when it is chosen, and refused when given without it, as
+	// a worst outcome's trim is without its criterion.
+	own := strings.TrimSpace(f.Value("analysis_alpha")) != "" || strings.TrimSpace(f.Value("analysis_beta")) != ""
+	switch {
+	case analysis == ownAnalysis:
+		b := elicit.Beta{Alpha: f.Float("analysis_alpha"), Beta: f.Float("analysis_beta")}
+		if f.fieldsOK("analysis_alpha", "analysis_beta") {
+			f.Fail(b.Validate(), map[string]string{"alpha": "analysis_alpha", "beta": "analysis_beta"})
+		}
+		p.Analysis = priorChoice{Value: ownAnalysis, Label: "A Beta of your own", InSentence: "your own analysis prior", Prior: b}
+	case own:
+		for _, name := range []string{"analysis_alpha", "analysis_beta"} {
+			if strings.TrimSpace(f.Value(name)) != "" {
+				f.set(name, "applies only to a Beta of your own: choose it under “Analysed under”, or leave this empty")
+			}
 		}
 	}
 	p.Trials = f.Int("trials", 1, elicit.MaxPredictiveTrials)
@@ -595,6 +614,10 @@ func planStudy(ctx context.Context, p planView) planView {
 // usual choice where those who judge the study ask that the panel's
 // judgement not enter its conclusion.
 var uniformAnalysis = priorChoice{Value: "uniform", Label: "Uniform", InSentence: "the uniform prior (no judgement)", Prior: elicit.Uniform()}
+
+// ownAnalysis is the "Analysed under" choice of a Beta of the lead's
+// own, its α and β typed in analysis_alpha and analysis_beta.
+const ownAnalysis = "own"
 
 // analysisChoices are the priors success can be judged under: the uniform
 // first, then every prior the study can be planned under. An analysis

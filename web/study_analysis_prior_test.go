@@ -5,6 +5,8 @@ import (
 	"net/http"
 	"strings"
 	"testing"
+
+	"github.com/parley-elicit/parley/elicit"
 )
 
 // TestStudyJudgesSuccessUnderAnAnalysisPrior: the planning form's "Analysed
@@ -57,5 +59,47 @@ func TestStudyJudgesSuccessUnderAnAnalysisPrior(t *testing.T) {
 	}
 	if res, body := h.get(sp + "?analysis=sceptic" + goal); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "analysis") {
 		t.Errorf("an analysis prior not offered: status %d, message beside it: %v", res.StatusCode, hasFieldError(body, "analysis"))
+	}
+}
+
+// TestStudyAnalysedUnderABetaOfYourOwn: "A Beta of your own" takes the
+// analysis prior's α and β as typed: Beta(1, 1) typed gives the uniform's
+// plan (SciPy, two_prior_plan_reference.py: 43.2% and 188 trials for the
+// agreed Beta(2, 38)), and a sceptical Beta(2, 18) judges success on its
+// own posterior (elicit.AssuranceUnder's). Its α and β are refused
+// beside their boxes when missing or out of range, and when typed with
+// another choice, where they would be left out unsaid.
+func TestStudyAnalysedUnderABetaOfYourOwn(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	agreeSample(t, h, qs[0].ID, 2, 40, "about 2 in 40 (invented)")
+	sp := studyPath(ws.ID, qs[0].ID)
+	goal := "&trials=100&threshold=0.08&direction=below&confidence=0.95"
+	res, body := h.get(sp + "?analysis=own&analysis_alpha=1&analysis_beta=1" + goal + "&length=0.06&level=0.95&criterion=alc&interval=equal")
+	text := html.UnescapeString(body)
+	if res.StatusCode != http.StatusOK || !strings.Contains(text, ">43.2%<") || !strings.Contains(text, "188 trials") ||
+		!strings.Contains(text, "the posterior taken under your own analysis prior, Beta(1, 1), the prior the study's analysis will use") {
+		t.Errorf("Beta(1, 1) of your own: status %d, the uniform's plan shown: %v", res.StatusCode,
+			strings.Contains(text, ">43.2%<") && strings.Contains(text, "188 trials"))
+	}
+	want, err := elicit.AssuranceUnder(elicit.Beta{Alpha: 2, Beta: 38}, elicit.Beta{Alpha: 2, Beta: 18}, 100,
+		elicit.SuccessCriterion{Threshold: 0.08, Direction: elicit.DirectionBelow, Confidence: 0.95})
+	if err != nil {
+		t.Fatal(err)
+	}
+	_, body = h.get(sp + "?analysis=own&analysis_alpha=2&analysis_beta=18" + goal)
+	if text := html.UnescapeString(body); !strings.Contains(text, ">"+pct(want.Assurance)+"<") || !strings.Contains(text, "your own analysis prior, Beta(2, 18)") {
+		t.Errorf("Beta(2, 18) of your own: the page lacks the assurance %s", pct(want.Assurance))
+	}
+	for _, c := range []struct{ query, field string }{
+		{"analysis=own&analysis_beta=1", "analysis_alpha"},
+		{"analysis=own&analysis_alpha=0&analysis_beta=1", "analysis_alpha"},
+		{"analysis=own&analysis_alpha=1&analysis_beta=1e9", "analysis_beta"},
+		{"analysis=own&analysis_alpha=1&analysis_beta=one", "analysis_beta"},
+		{"analysis=uniform&analysis_alpha=1", "analysis_alpha"},
+		{"analysis_beta=3", "analysis_beta"},
+	} {
+		if res, body := h.get(sp + "?" + c.query + goal); res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, c.field) {
+			t.Errorf("%s: status %d, message beside %s: %v", c.query, res.StatusCode, c.field, hasFieldError(body, c.field))
+		}
 	}
 }
