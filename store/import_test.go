@@ -122,19 +122,10 @@ func TestImportRoundTrip(t *testing.T) {
 	ctx := context.Background()
 	src := newDB(t)
 	p := fullWorkshop(t, src)
-	first := exportJSON(t, src, p.w.ID)
+	first, dst, id := exportImported(t, src, p.w.ID)
 	rec, err := record.Parse(bytes.NewReader(first))
 	if err != nil {
 		t.Fatal(err)
-	}
-
-	dst := newDB(t)
-	id, err := dst.Import(ctx, rec)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if second := exportJSON(t, dst, id); !bytes.Equal(first, second) {
-		t.Fatalf("export after import differs:\n%s\n---\n%s", first, second)
 	}
 	// Imported experts have no link until the facilitator issues one.
 	var withToken int
@@ -575,4 +566,25 @@ func TestImportRenumbersIDsAtTheTopOfTheRange(t *testing.T) {
 	if got, err := fresh.Import(ctx, rec2); err != nil || got != p.w.ID {
 		t.Fatalf("an ordinary record imported as %d (%v), want its own id %d", got, err, p.w.ID)
 	}
+}
+
+// exportImported exports workshop wsID of src, imports the record into a
+// new database and checks that its export there is the same bytes; it
+// returns the first export, the new database and the workshop's id there.
+func exportImported(t *testing.T, src *DB, wsID int64) ([]byte, *DB, int64) {
+	t.Helper()
+	first := exportJSON(t, src, wsID)
+	rec, err := record.Parse(bytes.NewReader(first))
+	if err != nil {
+		t.Fatal(err)
+	}
+	dst := newDB(t)
+	id, err := dst.Import(context.Background(), rec)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if second := exportJSON(t, dst, id); !bytes.Equal(first, second) {
+		t.Fatalf("export after import differs:\n%s\n---\n%s", first, second)
+	}
+	return first, dst, id
 }

@@ -151,21 +151,13 @@ func TestWithdrawalRoundTrip(t *testing.T) {
 	wrong := workshop.Revision{QuestionID: p.qs[0].ID, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.6)}
 	must(t, src.SaveRevision(ctx, &wrong))
 	must(t, src.WithdrawRevision(ctx, p.w.ID, wrong.ID, "Chidi's answer, entered against Ada"))
-	first := exportJSON(t, src, p.w.ID)
+	first, dst, id := exportImported(t, src, p.w.ID)
 	if !bytes.Contains(first, []byte(`"withdrawn": true`)) {
 		t.Fatalf("the export does not mark the withdrawn revision:\n%s", first)
 	}
 	rec, err := record.Parse(bytes.NewReader(first))
 	if err != nil {
 		t.Fatal(err)
-	}
-	dst := newDB(t)
-	id, err := dst.Import(ctx, rec)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if second := exportJSON(t, dst, id); !bytes.Equal(first, second) {
-		t.Fatalf("export after import differs:\n%s\n---\n%s", first, second)
 	}
 	latest, _ := dst.LatestRevisions(ctx, p.qs[0].ID, 1)
 	if len(latest) != 1 || latest[0].ID != keep.ID {

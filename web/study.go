@@ -642,15 +642,20 @@ func judgedWords(p planView) string {
 	if p.Analysis.Value == "" {
 		return ""
 	}
-	return ", the posterior taken under " + p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
+	return ", the posterior taken under " + analysisWords(p)
+}
+
+// analysisWords name the analysis prior, what it is, and the prior that
+// gives each outcome's chance.
+func analysisWords(p planView) string {
+	return p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
 		", the prior the study's analysis will use; each outcome's chance comes from " + p.Chosen.InSentence
 }
 
 // sizeJudgedWords say, as a sentence, whose posterior the sample size's
 // intervals are of and where the outcomes' chances come from.
 func sizeJudgedWords(p planView) string {
-	return "The intervals are of the posterior under " + p.Analysis.InSentence + ", " + betaText(p.Analysis.Prior) +
-		", the prior the study's analysis will use; each outcome's chance comes from " + p.Chosen.InSentence + "."
+	return "The intervals are of the posterior under " + analysisWords(p) + "."
 }
 
 // aloneWords name the prior whose own interval is the criterion with no

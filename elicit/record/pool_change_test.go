@@ -41,21 +41,12 @@ func TestPoolChangeFromTheRecord(t *testing.T) {
 					t.Errorf("%s, %s: revised %v, want %v", name, build.name, c.Revised, wantRevised)
 				}
 			}
-			var buf bytes.Buffer
-			if err := r.WritePriorsCSV(&buf); err != nil {
-				t.Fatal(err)
-			}
-			rows, err := csv.NewReader(&buf).ReadAll()
-			if err != nil {
-				t.Fatal(err)
-			}
-			last := len(rows[0]) - 1
 			want := "false"
 			if wantChanged {
 				want = "true"
 			}
-			if rows[0][last] != "pool_changed" || rows[1][last] != want {
-				t.Errorf("%s, %s: priors CSV %s = %q, want %q", name, build.name, rows[0][last], rows[1][last], want)
+			if head, got := priorsCSVLast(t, r); head != "pool_changed" || got != want {
+				t.Errorf("%s, %s: priors CSV %s = %q, want %q", name, build.name, head, got, want)
 			}
 		}
 	}
@@ -87,6 +78,15 @@ func TestPoolChangeAfterAWithdrawal(t *testing.T) {
 	if !ok || !c.Any() || len(c.Withdrawn) != 1 || c.Withdrawn[0] != 22 || len(c.Revised)+len(c.Left) != 0 {
 		t.Fatalf("Bela's pooled judgement withdrawn: %v %+v", ok, c)
 	}
+	if head, got := priorsCSVLast(t, r); head != "pool_changed" || got != "true" {
+		t.Errorf("priors CSV %s = %q, want pool_changed true", head, got)
+	}
+}
+
+// priorsCSVLast is the priors CSV's last column: its header and its first
+// row's value.
+func priorsCSVLast(t *testing.T, r Record) (head, value string) {
+	t.Helper()
 	var buf bytes.Buffer
 	if err := r.WritePriorsCSV(&buf); err != nil {
 		t.Fatal(err)
@@ -95,7 +95,6 @@ func TestPoolChangeAfterAWithdrawal(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	if last := len(rows[0]) - 1; rows[1][last] != "true" {
-		t.Errorf("priors CSV pool_changed = %q, want true", rows[1][last])
-	}
+	last := len(rows[0]) - 1
+	return rows[0][last], rows[1][last]
 }
