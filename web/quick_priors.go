@@ -4,6 +4,7 @@ import (
 	"errors"
 	"fmt"
 	"net/http"
+	"net/url"
 	"strconv"
 	"strings"
 
@@ -133,6 +134,23 @@ type quickResult struct {
 	Worth        elicit.PriorWorth
 	Picture      chart.PanelView
 	Method       string // the elicit method, for recording it
+	// Plan is the study page's plan with this prior as the study's
+	// analysis prior, for a proportion; empty on other bounds, where the
+	// study page plans nothing.
+	Plan string
+}
+
+// analysedUnderLink is the study page of question q with its plan judged
+// under the Beta b as a prior of the lead's own ("Analysed under"): its
+// α and β written to round-trip exactly, so that the plan uses the Beta
+// this page made, not one rounded for reading.
+func analysedUnderLink(ws int64, q workshop.Question, b elicit.Beta) string {
+	v := url.Values{}
+	v.Set("analysis", ownAnalysis)
+	v.Set("analysis_alpha", strconv.FormatFloat(b.Alpha, 'g', -1, 64))
+	v.Set("analysis_beta", strconv.FormatFloat(b.Beta, 'g', -1, 64))
+	v.Set("trials", strconv.Itoa(defaultPlanTrials))
+	return studyPath(ws, q.ID) + "?" + v.Encode() + "#plan"
 }
 
 // proportion says the construction is on [0, 1], where α + β counts
@@ -213,6 +231,11 @@ func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws work
 	status := http.StatusOK
 	if len(f.Values) > 0 && len(v.Questions) > 0 {
 		v.Question, v.Results, v.Unavailable = readQuick(f, v.Questions)
+	}
+	if v.Question != nil && v.Question.IsProportion() {
+		for i := range v.Results {
+			v.Results[i].Plan = analysedUnderLink(ws.ID, *v.Question, v.Results[i].Construction.Dist.Beta)
+		}
 	}
 	if v.Question != nil {
 		if v.Recorded, err = s.recordedFor(r.Context(), ws, *v.Question); err != nil {
