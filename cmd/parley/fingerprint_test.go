@@ -4,6 +4,8 @@ import (
 	"context"
 	"database/sql"
 	"encoding/json"
+	"errors"
+	"io/fs"
 	"os"
 	"path/filepath"
 	"regexp"
@@ -480,7 +482,7 @@ func TestFingerprintDecisionWithoutItsLogEntry(t *testing.T) {
 		name, insert, want string
 	}{
 		{"weight set", `INSERT INTO weight_sets (workshop_id, scheme, by_expert, reason, at)
-			SELECT id, 'custom', '{}', 'set quietly', ? FROM workshops`, "weight_history[0]: " + string(record.RuleNotLogged)},
+			SELECT id, 'equal', '{}', 'set quietly', ? FROM workshops`, "weight_history[0]: " + string(record.RuleNotLogged)},
 		{"agreed prior", `INSERT INTO agreed_priors (question_id, source, alpha, beta, lower, upper, consensus, rationale, round, at,
 			round_open, weight_set_id, construction, pooled_revisions)
 			SELECT question_id, source, 40, 4, lower, upper, consensus, 'agreed quietly', round, ?, round_open, weight_set_id, construction, pooled_revisions
@@ -500,6 +502,16 @@ func TestFingerprintDecisionWithoutItsLogEntry(t *testing.T) {
 		code, _, errs := run("fingerprint", "--in", file)
 		if code != exitFailure || !strings.Contains(errs, "a decision is in the record without its entry in the decision log (it was added later): "+c.want) {
 			t.Errorf("%s: fingerprint: exit %d, %q, want exit 1 and %q", c.name, code, errs, c.want)
+		}
+		// import refuses it too, naming the item, and creates nothing:
+		// restored, the quiet decision stood as one the log never had.
+		into := filepath.Join(t.TempDir(), "restored.db")
+		code, _, errs = run("import", "--db", into, "--in", file)
+		if code != exitBadInput || !strings.Contains(errs, c.want) {
+			t.Errorf("%s: import: exit %d, %q, want exit 2 and %q", c.name, code, errs, c.want)
+		}
+		if _, err := os.Stat(into); !errors.Is(err, fs.ErrNotExist) {
+			t.Errorf("%s: import left a database behind: %v", c.name, err)
 		}
 	}
 }

@@ -52,6 +52,14 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
+	// A weight set, an agreed prior or a batch of study data without its
+	// entry in the decision log was added behind Parley's back (parley
+	// fingerprint says so too); imported, it would stand as a decision
+	// the log never mentions. record.Parse leaves this check to its
+	// callers, for records written by hand in tests.
+	if err := rec.Record.CheckLogged(); err != nil {
+		return fail(stderr, "import", err)
+	}
 	id, err := importInto(*dbPath, rec)
 	if err != nil {
 		return fail(stderr, "import", err)

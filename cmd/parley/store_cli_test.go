@@ -543,7 +543,9 @@ func TestStoreCommandsRefuseADatabaseWithTwoNames(t *testing.T) {
 // `parley import` refused the record, so a workshop holding one could not
 // be brought back. The import takes the record as written; new batches,
 // typed or added through the store, keep the 1900 rule. The old batches
-// are written into the SQLite file as the earlier version stored them.
+// are written into the SQLite file as the earlier version stored them,
+// each with its study_data_recorded event (without one, import refuses
+// the batch as added behind Parley's back, record.CheckLogged).
 func TestImportTakesADayObservedBeforeTheRule(t *testing.T) {
 	path, wid, qid := cliWorkshop(t)
 	ctx := context.Background()
@@ -556,6 +558,10 @@ func TestImportTakesADayObservedBeforeTheRule(t *testing.T) {
 	at := time.Now().UTC().Format(time.RFC3339Nano)
 	for _, day := range []string{"0026-03-31", "1899-12-31"} {
 		if _, err := raw.Exec(`INSERT INTO study_data (question_id, successes, trials, source, observed_on, at) VALUES (?, 1, 20, 'site log (invented)', ?, ?)`, qid, day, at); err != nil {
+			t.Fatal(err)
+		}
+		if _, err := raw.Exec(`INSERT INTO events (workshop_id, question_id, kind, at, reason, detail) VALUES (?, ?, ?, ?, 'site log (invented)', ?)`,
+			wid, qid, string(workshop.EventDataRecorded), at, `{"successes":1,"trials":20,"observed_on":"`+day+`"}`); err != nil {
 			t.Fatal(err)
 		}
 	}
