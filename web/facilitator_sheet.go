@@ -41,6 +41,17 @@ type keptSheet struct {
 	reading map[workshop.Key]rowReading
 }
 
+// unchanged counts the rows the preview left out as unchanged.
+func (sh keptSheet) unchanged() int {
+	n := 0
+	for _, r := range sh.reading {
+		if r == readUnchanged {
+			n++
+		}
+	}
+	return n
+}
+
 // rowReading is how a row reads against its expert's current answer.
 type rowReading int
 
@@ -486,7 +497,11 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	sh, found, taken := s.sheets.take(key, s.now())
 	if taken {
 		// Sent twice: the first is saving it, or has; nothing more is.
-		s.confirmOnce(w, r, workshopPath(ws.ID), doneSheetSaved)
+		// The first saves only what the preview read (else it saves
+		// nothing and gives the sheet back), so the rows it left out as
+		// unchanged are the preview's: the second said "saved" without
+		// them.
+		s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(sh.unchanged()))
 		http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 		return
 	}

@@ -80,8 +80,9 @@ func (k *kept[T]) get(key string, now time.Time) (T, bool) {
 // take claims the value kept under key for the one request that uses it
 // up (an answer sheet's confirmation). The first caller gets it (ok); a
 // caller while it is claimed, or after it was used, gets taken instead,
-// so a confirmation sent twice (a double click, a replay) is used once.
-// The value stays claimed until its time, or until untake.
+// with the value to read (what the first use did), so a confirmation
+// sent twice (a double click, a replay) is used once. The value stays
+// claimed until its time, or until untake.
 func (k *kept[T]) take(key string, now time.Time) (v T, ok, taken bool) {
 	k.mu.Lock()
 	defer k.mu.Unlock()
@@ -90,7 +91,7 @@ func (k *kept[T]) take(key string, now time.Time) (v T, ok, taken bool) {
 		return v, false, false
 	}
 	if it.taken {
-		return v, false, true
+		return it.v, false, true
 	}
 	it.taken = true
 	k.items[key] = it

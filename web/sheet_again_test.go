@@ -148,3 +148,31 @@ func TestSheetConfirmedFromASecondPreviewSavesNothing(t *testing.T) {
 		t.Fatalf("the second preview saved %d revisions", n-before)
 	}
 }
+
+// A confirmation sent twice (a double click past the form's key, a
+// replay) saves once, and the overview after each post says the same:
+// what was saved and how many rows were left out as unchanged. The
+// second post, which finds the sheet used, said "saved" without the
+// unchanged rows.
+func TestSheetConfirmedTwiceSaysTheUnchangedRowsBothTimes(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,reason\nAda Quell,Q1,0.02,0.06,0.15,Logs (invented).\nBruno Ferrante,Q1,0.01,0.04,0.10,\nChiara Osei,Q1,0.01,0.03,0.08,\n"
+	g.uploadSheet(t, "monday.csv", sheet, "paper_form")
+	g.h.get(workshopPath(g.ws.ID)) // takes the first sheet's confirmation
+	before := len(g.revisions(t))
+	key := g.previewSheet(t, "monday.csv", strings.Replace(sheet, "0.01,0.04,0.10", "0.01,0.04,0.12", 1), "paper_form")
+	const left = "2 rows repeated their experts' current answers and were not saved again."
+	for i := range 2 {
+		if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key}}); r.StatusCode != http.StatusSeeOther {
+			t.Fatalf("confirmation %d: %d", i+1, r.StatusCode)
+		}
+		_, overview := g.h.get(workshopPath(g.ws.ID))
+		overview = html.UnescapeString(overview)
+		if !strings.Contains(overview, "Answer sheet saved.") || !strings.Contains(overview, left) {
+			t.Errorf("the overview after confirmation %d does not say %q", i+1, left)
+		}
+	}
+	if n := len(g.revisions(t)) - before; n != 1 {
+		t.Errorf("two confirmations saved %d revisions, want 1", n)
+	}
+}
