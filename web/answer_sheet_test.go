@@ -296,9 +296,13 @@ func TestAnswerSheetRefusals(t *testing.T) {
 		// only (parley import-answers --workshop +1 is refused):
 		// strconv took a sign.
 		{"an expert's id with a sign", head + good + "id:+2,Q1,0.02,0.06,0.15,,,,,\n", "row 3, column expert", answersheet.RuleExpert},
-		{"a question's number with a sign", head + good + "Bruno Ferrante,+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
-		{"a question's id with a sign", head + good + "Bruno Ferrante,id:+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
-		{"Q and a sign", head + good + "Bruno Ferrante,Q+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestion},
+		{"a question's number with a sign", head + good + "Bruno Ferrante,+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestionForm},
+		{"a question's id with a sign", head + good + "Bruno Ferrante,id:+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestionForm},
+		{"Q and a sign", head + good + "Bruno Ferrante,Q+1,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestionForm},
+		// A question cell only a guess could read; a quantity not its
+		// number's (a question list copied one line out of step).
+		{"a question's number with a fraction", head + good + "Bruno Ferrante,1.5,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuestionForm},
+		{"a question's quantity out of step", head + good + "Bruno Ferrante,Q1 coating failure share,0.02,0.06,0.15,,,,,\n", "row 3, column question", answersheet.RuleQuantity},
 		{"wrong columns for the format", head + good + "Bruno Ferrante,Q1,0.02,0.06,0.15,0.1,,,,\n", "row 3, column lowest", answersheet.RuleColumn},
 		{"missing column", head + good + "Bruno Ferrante,Q2,,,,0.05,0.3,,80,\n", "row 3, column best", answersheet.RuleMissing},
 		{"a broken rule", head + good + "Bruno Ferrante,Q1,0.02,0.01,0.15,,,,,\n", "row 3, column q50", elicit.RuleValueIncreasing},
@@ -1002,5 +1006,31 @@ func TestSheetFileNameTheRecordCanCarry(t *testing.T) {
 	_, rec := g.h.get(workshopPath(g.ws.ID) + "/export.json")
 	if _, err := record.ParseChecked(strings.NewReader(rec)); err != nil || !strings.Contains(rec, "réponses Ω 答案.csv") {
 		t.Errorf("the record of a sheet named in other letters: %v", err)
+	}
+}
+
+// The question cell as a practitioner's sheet carries it, uploaded: 1.0
+// as a spreadsheet writes the number 1, Question 2 as the expert's page
+// writes it, and the overview's "Q4 valve leak share"; each row saved
+// against its question.
+func TestAnswerSheetQuestionAsSheetsWriteIt(t *testing.T) {
+	g := newSheetRig(t)
+	sheet := "expert,question,q05,q50,q95,lowest,highest,best,confidence,q33,q67\n" +
+		"Ada Quell,1.0,0.02,0.06,0.15,,,,,,\n" +
+		"Ada Quell,\"Question 2, coating failure share\",,,,0.05,0.3,0.1,80,,\n" +
+		"Bruno Ferrante,Question 1,0.01,0.05,0.2,,,,,,\n" +
+		"Bruno Ferrante,Q4 valve leak share,,0.2,,,,,,0.1,0.3\n"
+	g.uploadSheet(t, "monday.csv", sheet, "paper_form")
+	got := map[[2]int64]bool{}
+	for _, rv := range g.revisions(t) {
+		got[[2]int64{rv.ExpertID, rv.QuestionID}] = true
+	}
+	for _, want := range [][2]int64{{g.experts[0].ID, g.qs[0].ID}, {g.experts[0].ID, g.qs[1].ID}, {g.experts[1].ID, g.qs[0].ID}, {g.experts[1].ID, g.qs[3].ID}} {
+		if !got[want] {
+			t.Errorf("no revision of expert %d on question %d; saved %v", want[0], want[1], got)
+		}
+	}
+	if len(got) != 4 {
+		t.Errorf("saved %d judgements, want 4", len(got))
 	}
 }

@@ -392,3 +392,34 @@ func TestImportAnswersKeepsTheReasoning(t *testing.T) {
 		t.Fatalf("round 2 saved %+v; want no reasoning", last)
 	}
 }
+
+// import-answers reads the question cell as the upload does (one
+// parser, answersheet): 2.0 and "Question 1" name their questions, and a
+// cell only a guess could read exits 2 naming the row, the column and
+// the rule, nothing saved.
+func TestImportAnswersReadsTheQuestionAsSheetsWriteIt(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	w := strconv.FormatInt(ws, 10)
+	before := len(revisionsIn(t, path, ws))
+	for _, c := range []struct{ cell, want string }{
+		{"2.5", "row 2, column question: must name the question by its number, 3, Q3 or Question 3"},
+		{"Q 2b", "row 2, column question: must name the question by its number"},
+		{"Q2 hatch share", `row 2, column question: names a quantity other than the question's of that number ("Q2 hatch share", but Q2 asks for "survival share")`},
+	} {
+		code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, "expert,question,q05,q50,q95\nInes,"+c.cell+",0.1,0.3,0.6\n"))
+		if code != 2 || !strings.Contains(errOut, c.want) {
+			t.Errorf("%q: exit %d, %q; want 2 naming %s", c.cell, code, errOut, c.want)
+		}
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("refused sheets wrote %d revisions", n-before)
+	}
+	sheet := writeSheet(t, "expert,question,q05,q50,q95\nInes,2.0,0.1,0.3,0.6\nJomo,Question 1,0.15,0.3,0.5\nJomo,\"Question 2, survival share\",0.1,0.25,0.45\n")
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet)
+	if code != 0 || !strings.Contains(out, "row 2: Ines, Q2:") || !strings.Contains(out, "row 3: Jomo, Q1:") || !strings.Contains(out, "row 4: Jomo, Q2:") {
+		t.Fatalf("import: %d %q %q", code, out, errOut)
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before+3 {
+		t.Errorf("saved %d revisions, want 3", n-before)
+	}
+}

@@ -22,7 +22,9 @@ import (
 // on the workshop's pages). Its columns:
 //
 //	expert     the expert's name as on the panel, or id:N
-//	question   the question's number as on the overview (3 or Q3), or id:N
+//	question   the question's number as the pages write it (3, Q3 or
+//	           Question 3, 3.0 too), its quantity after it or not, or id:N
+//	           (question.go)
 //	qNN ...    for a quantile question, one column per probability it asks,
 //	           named as `parley calibrate` reads them: q05, q50, q95; a
 //	           probability without a short decimal form takes two digits
@@ -345,7 +347,6 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 // (workshop.ParseAnswerNumber, workshop.ParseConfidence) and elicit's.
 func readRow(line int, cell func(string) string, questions []workshop.Question, experts []workshop.Expert, col map[string]int) (Row, error) {
 	row := Row{Line: line}
-	var ok bool
 	var n int
 	if row.Expert, n = findExpert(cell("expert"), experts); n != 1 {
 		rule := RuleExpert
@@ -365,12 +366,9 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		}
 		return row, rowErr(line, "expert", rule, "%s", detail)
 	}
-	if row.Question, ok = findQuestion(cell("question"), questions); !ok {
-		detail := shownCell(cell("question"))
-		if q, retired := retiredQuestion(cell("question"), questions); retired {
-			detail = fmt.Sprintf("Q%d is retired", q.Position)
-		}
-		return row, rowErr(line, "question", RuleQuestion, "%s", detail)
+	var err error
+	if row.Question, err = findQuestion(line, cell("question"), questions); err != nil {
+		return row, err
 	}
 	q := row.Question
 	if q.Frozen() {
@@ -404,7 +402,6 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		}
 		return v, underColumn(line, c, err)
 	}
-	var err error
 	switch q.Format {
 	case workshop.FormatInterval:
 		for _, f := range []struct {
@@ -576,34 +573,6 @@ func revokedExpert(s string, experts []workshop.Expert) (workshop.Expert, bool) 
 		}
 	}
 	return found, n == 1
-}
-
-// retiredQuestion finds the retired question a row names.
-func retiredQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
-	for _, q := range questions {
-		if q.Retired {
-			if got, ok := findQuestion(s, []workshop.Question{{ID: q.ID, Position: q.Position}}); ok && got.ID == q.ID {
-				return q, true
-			}
-		}
-	}
-	return workshop.Question{}, false
-}
-
-// findQuestion finds a question that takes answers by its number (3 or
-// Q3) or by id:N.
-func findQuestion(s string, questions []workshop.Question) (workshop.Question, bool) {
-	id, byID := sheetID(s)
-	pos, err := input.Whole("question", strings.TrimPrefix(strings.ToUpper(strings.TrimSpace(s)), "Q"), 1, input.MaxID)
-	for _, q := range questions {
-		if q.Retired {
-			continue
-		}
-		if (byID && q.ID == id) || (!byID && err == nil && q.Position == pos) {
-			return q, true
-		}
-	}
-	return workshop.Question{}, false
 }
 
 // sheetID reads "id:N", N by the rule of every id Parley reads: digits
