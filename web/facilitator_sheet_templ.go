@@ -751,7 +751,7 @@ func sheetPage(v sheetView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			if len(v.Rows) > 0 {
+			if len(v.Rows) > 0 && len(v.Unchanged) > 0 {
 				templ_7745c5c3_Err = sheetUnchanged(v).Render(ctx, templ_7745c5c3_Buffer)
 				if templ_7745c5c3_Err != nil {
 					return templ_7745c5c3_Err

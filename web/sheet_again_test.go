@@ -176,3 +176,17 @@ func TestSheetConfirmedTwiceSaysTheUnchangedRowsBothTimes(t *testing.T) {
 		t.Errorf("two confirmations saved %d revisions, want 1", n)
 	}
 }
+
+// A sheet none of whose rows repeats a current answer has no list of
+// unchanged rows: its preview said "0 rows unchanged, not saved again"
+// over an empty table below the save button.
+func TestSheetWithoutUnchangedRowsListsNone(t *testing.T) {
+	g := newSheetRig(t)
+	r, body := g.postSheet(t, "monday.csv", "expert,question,q05,q50,q95\nAda Quell,Q1,0.02,0.06,0.15\n")
+	if r.StatusCode != http.StatusOK || !strings.Contains(body, "Save this judgement") {
+		t.Fatalf("preview: %d %s", r.StatusCode, body)
+	}
+	if strings.Contains(body, `id="sheet-unchanged`) || strings.Contains(body, "rows unchanged") {
+		t.Errorf("the preview of a sheet without unchanged rows lists unchanged rows:\n%s", body)
+	}
+}
