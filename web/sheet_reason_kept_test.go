@@ -9,6 +9,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
@@ -111,5 +112,64 @@ func TestSheetReasoningWithheldMeanwhileSavesNothing(t *testing.T) {
 	}
 	if n := len(g.revisions(t)); n != before {
 		t.Fatalf("saved %d revisions", n-before)
+	}
+}
+
+// A row whose clear_reason cell says yes saves the expert's answer
+// without reasoning, as the entry form does when the facilitator empties
+// its box: an empty reason cell keeps the current answer's reasoning, so
+// the sheet had no way to take it out. A row that repeats the values
+// only to clear the reasoning is a change, not an unchanged row; the
+// same sheet again is then unchanged. A clear_reason cell of another
+// word, or with a reasoning beside it, is refused naming the cell and
+// the rule, nothing saved.
+func TestSheetRowClearsTheReasoning(t *testing.T) {
+	g := newSheetRig(t)
+	ctx := context.Background()
+	for _, e := range g.experts[:2] {
+		rv := workshop.Revision{QuestionID: g.qs[0].ID, ExpertID: e.ID, Reason: "Copied onto the wrong form (invented).",
+			Answer: workshop.Answer{Values: []float64{0.02, 0.06, 0.15}}}
+		if err := g.h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	before := len(g.revisions(t))
+	for _, c := range []struct{ row, field, rule string }{
+		{"Ada Quell,Q1,0.02,0.07,0.15,,maybe\n", "row 2, column clear_reason", string(answersheet.RuleClearReason)},
+		{"Ada Quell,Q1,0.02,0.07,0.15,Logs (invented).,yes\n", "row 2, column reason", string(answersheet.RuleReasonCleared)},
+	} {
+		r, body := g.postSheet(t, "cleared.csv", "expert,question,q05,q50,q95,reason,clear_reason\n"+c.row)
+		if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, c.field+": "+c.rule) {
+			t.Errorf("%q: %d, want 422 naming %s: %s", c.row, r.StatusCode, c.field, c.rule)
+		}
+	}
+	if n := len(g.revisions(t)); n != before {
+		t.Fatalf("refused sheets saved %d revisions", n-before)
+	}
+	sheet := "expert,question,q05,q50,q95,reason,clear_reason\nAda Quell,Q1,0.02,0.07,0.15,,yes\nBruno Ferrante,Q1,0.02,0.06,0.15,,TRUE\n"
+	r, body := g.postSheet(t, "cleared.csv", sheet)
+	if r.StatusCode != http.StatusOK || strings.Count(body, "none: its clear_reason cell says to save it without reasoning") != 2 ||
+		strings.Contains(body, `id="sheet-unchanged"`) {
+		t.Fatalf("the preview does not say both rows clear the reasoning: %d %s", r.StatusCode, body)
+	}
+	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
+	if key == nil {
+		t.Fatal("no key")
+	}
+	if r, _ := g.h.post(sheetPath(g.ws.ID)+"/confirm", url.Values{"key": {key[1]}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("confirm: %d", r.StatusCode)
+	}
+	revs := g.revisions(t)
+	if len(revs) != before+2 {
+		t.Fatalf("saved %d revisions, want 2", len(revs)-before)
+	}
+	cur := workshop.Current(revs, nil)
+	for _, e := range g.experts[:2] {
+		if rv := cur[workshop.Key{Question: g.qs[0].ID, Expert: e.ID}]; rv.Reason != "" || rv.EnteredBy != workshop.ByFacilitator {
+			t.Errorf("%s's current answer keeps reasoning %q (by %s)", e.Name, rv.Reason, rv.EnteredBy)
+		}
+	}
+	if r, body := g.postSheet(t, "cleared.csv", sheet); r.StatusCode != http.StatusOK || !strings.Contains(body, "Nothing to save:</strong> both rows") {
+		t.Errorf("the sheet again: %d %s", r.StatusCode, body)
 	}
 }

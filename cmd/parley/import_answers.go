@@ -230,9 +230,12 @@ func currentNote(name string, rv workshop.Revision) string {
 }
 
 // reasonNote says what a row with an empty reason cell keeps of the
-// reasoning of its expert's current answer (answersheet.Against).
+// reasoning of its expert's current answer (answersheet.Against), or
+// that it clears it.
 func reasonNote(row answersheet.Row) string {
 	switch {
+	case row.ReasonCleared:
+		return " — its clear_reason cell says yes: saved without reasoning"
 	case row.ReasonCarried:
 		return " — the reason cell is empty: keeps the reasoning of " + row.Expert.Name + "'s current answer"
 	case row.ReasonNotCarried:

@@ -393,6 +393,43 @@ func TestImportAnswersKeepsTheReasoning(t *testing.T) {
 	}
 }
 
+// import-answers saves a row whose clear_reason cell says yes without
+// reasoning, where an empty reason cell keeps the current answer's, and
+// says so in its listing; a reasoning beside it exits 2 naming the cell.
+func TestImportAnswersClearsTheReasoning(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	w := strconv.FormatInt(ws, 10)
+	db, err := store.Open(path)
+	check(t, err)
+	ctx := context.Background()
+	qs, err := db.Questions(ctx, ws)
+	check(t, err)
+	es, err := db.Experts(ctx, ws)
+	check(t, err)
+	own := workshop.Revision{QuestionID: qs[1].ID, ExpertID: es[0].ID, Reason: "Meant for another question (invented).",
+		Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.6}}}
+	check(t, db.SaveRevision(ctx, &own))
+	check(t, db.Close())
+	before := len(revisionsIn(t, path, ws))
+	code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in",
+		writeSheet(t, "expert,question,q05,q50,q95,reason,clear_reason\nInes,Q2,0.1,0.3,0.65,Counts (invented).,x\n"))
+	if code != 2 || !strings.Contains(errOut, "row 2, column reason: must be empty in a row whose clear_reason cell says yes") {
+		t.Errorf("a reasoning beside clear_reason: %d %q", code, errOut)
+	}
+	if n := len(revisionsIn(t, path, ws)); n != before {
+		t.Fatalf("a refused sheet saved %d revisions", n-before)
+	}
+	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in",
+		writeSheet(t, "expert,question,q05,q50,q95,reason,clear_reason\nInes,Q2,0.1,0.3,0.65,,yes\n"))
+	if code != 0 || !strings.Contains(out, " — its clear_reason cell says yes: saved without reasoning\n") {
+		t.Fatalf("the correction: %d %q %q", code, out, errOut)
+	}
+	revs := revisionsIn(t, path, ws)
+	if last := revs[len(revs)-1]; len(revs) != before+1 || last.Reason != "" || last.Answer.Values[2] != 0.65 {
+		t.Fatalf("saved %+v; want the answer without reasoning", last)
+	}
+}
+
 // import-answers reads the question cell as the upload does (one
 // parser, answersheet): 2.0 and "Question 1" name their questions, and a
 // cell only a guess could read exits 2 naming the row, the column and

@@ -31,12 +31,14 @@ type Changes struct {
 // answer, the one the feedback, the reasons page and the room show,
 // without its reasoning. A reasoning withheld from the feedback is not
 // carried (saved again, it would be shown), nor one of an earlier round,
-// which the expert has not restated.
+// which the expert has not restated. A row whose clear_reason cell says
+// yes (Row.ReasonCleared) keeps nothing: it is saved without reasoning,
+// as an entry whose box the facilitator emptied.
 func Against(rows []Row, cur map[workshop.Key]workshop.Revision, round int) Changes {
 	var c Changes
 	for _, row := range rows {
 		rv, ok := cur[workshop.Key{Question: row.Question.ID, Expert: row.Expert.ID}]
-		if ok && rv.Round == round && row.Reason == "" && strings.TrimSpace(rv.Reason) != "" {
+		if ok && rv.Round == round && row.Reason == "" && !row.ReasonCleared && strings.TrimSpace(rv.Reason) != "" {
 			if rv.ReasonWithheld {
 				row.ReasonNotCarried = true
 			} else {

@@ -34,6 +34,10 @@ import (
 //	           confidence in percent, as on the expert's form (80 for 80%)
 //	bin1 ...   for a chips question, the chips in each bin, in order
 //	reason     optional: the expert's reasoning
+//	clear_reason  optional: yes (also x or TRUE, a spreadsheet's tick box)
+//	           saves the row without reasoning, where an empty reason cell
+//	           keeps the reasoning of the expert's current answer of the
+//	           round (Against); its reason cell must then be empty
 //
 // A row fills only the columns of its question's format. Every cell goes
 // through the rules of the expert's own form, so the sheet is refused as
@@ -42,7 +46,7 @@ import (
 
 // Rules of answer sheets.
 const (
-	RuleHeader     elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason)"
+	RuleHeader     elicit.Rule = "the header must name expert, question and the answer columns (qNN, lowest, highest, best, confidence, binN, reason, clear_reason)"
 	RuleColumn     elicit.Rule = "is not a column of this question's format"
 	RuleMissing    elicit.Rule = "is required for this question's format"
 	RuleRepeat     elicit.Rule = "one row per expert and question"
@@ -61,6 +65,10 @@ const (
 	// RuleQuote is CSV's rule of quote marks, which a spreadsheet keeps
 	// and a sheet typed or pasted by hand may break (12" pipes).
 	RuleQuote elicit.Rule = `a quote mark (") inside a cell must be doubled (""), with the whole cell in quote marks`
+	// RuleClearReason is the rule of the clear_reason cell.
+	RuleClearReason elicit.Rule = "must be yes (or x, or TRUE) to save the row without reasoning, or left empty (no or FALSE)"
+	// RuleReasonCleared refuses a reasoning in a row that clears it.
+	RuleReasonCleared elicit.Rule = "must be empty in a row whose clear_reason cell says yes"
 	// RuleHashName refuses a row read as a comment that names an expert.
 	RuleHashName elicit.Rule = `starts with #, which makes the row a comment, and names an expert on the panel: put the name in quote marks ("#1")`
 )
@@ -77,6 +85,9 @@ type Row struct {
 	Answer   workshop.Answer
 	Reason   string
 	Fit      elicit.Fit
+	// ReasonCleared says the row's clear_reason cell asks for it to be
+	// saved without reasoning: nothing is carried.
+	ReasonCleared bool
 	// ReasonCarried says the row's reason cell was empty and Reason is
 	// the reasoning saved with the expert's current answer of the open
 	// round, which the row keeps (Against); ReasonNotCarried that such
@@ -230,7 +241,7 @@ func Read(r io.Reader, questions []workshop.Question, experts []workshop.Expert)
 	if err := inUTF8(headerRow, header, nil); err != nil {
 		return nil, err
 	}
-	known := map[string]bool{"expert": true, "question": true, "reason": true}
+	known := map[string]bool{"expert": true, "question": true, "reason": true, "clear_reason": true}
 	for _, q := range questions {
 		for _, c := range Columns(q) {
 			known[c] = true
@@ -375,7 +386,7 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		return row, rowErr(line, "question", RuleQuestion, "Q%d's true value has been revealed, so its answers are final", q.Position)
 	}
 	mine := Columns(q)
-	own := map[string]bool{"expert": true, "question": true, "reason": true}
+	own := map[string]bool{"expert": true, "question": true, "reason": true, "clear_reason": true}
 	for _, c := range mine {
 		own[c] = true
 		if cell(c) == "" {
@@ -444,6 +455,12 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 	if row.Reason, err = input.Text("reason", cell("reason"), input.MaxLongText, false); err != nil {
 		return row, underColumn(line, "reason", err)
 	}
+	if row.ReasonCleared, err = clearReason(line, cell("clear_reason")); err != nil {
+		return row, err
+	}
+	if row.ReasonCleared && strings.TrimSpace(row.Reason) != "" {
+		return row, rowErr(line, "reason", RuleReasonCleared, "%s", shownCell(row.Reason))
+	}
 	fit, err := q.Fit(a)
 	if err != nil {
 		var ie *elicit.InputError
@@ -495,6 +512,20 @@ func percentsWithoutSign(q workshop.Question, a workshop.Answer) bool {
 		}
 	}
 	return 2*above > len(vs)
+}
+
+// clearReason reads a clear_reason cell: yes, x or TRUE (a spreadsheet's
+// tick box) to clear, empty, no or FALSE not to; any other word is
+// refused, since a facilitator who wrote "maybe" or "reason" meant
+// something the sheet cannot read.
+func clearReason(line int, s string) (bool, error) {
+	switch strings.ToLower(strings.TrimSpace(s)) {
+	case "yes", "x", "true":
+		return true, nil
+	case "", "no", "false":
+		return false, nil
+	}
+	return false, rowErr(line, "clear_reason", RuleClearReason, "%s", shownCell(s))
 }
 
 // underColumn puts a cell's parse error under its row and column.
