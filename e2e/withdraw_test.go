@@ -13,8 +13,9 @@ import (
 // 390 px: "Withdraw…" beside it in the question's history opens the page
 // that says what follows; sent without a reason it is refused beside the
 // field; with one, the history marks the judgement withdrawn with the
-// reason. axe-core finds no violation of any impact on the page or the
-// history.
+// reason. The expert's page, the entry page and the revoke page list or
+// count it, marked as the history marks it. axe-core finds no violation
+// of any impact on any of these pages.
 func TestWithdrawInBrowser(t *testing.T) {
 	site, d := startDemo(t)
 	axe := axeSource(t)
@@ -25,6 +26,7 @@ func TestWithdrawInBrowser(t *testing.T) {
 		t.Fatalf("the demo's answers to Q1: %v, %v", latest, err)
 	}
 	b := startBrowser(t)
+	shots := newScreenshots(t)
 	fac := b.person("facilitator")
 	signIn(t, site, fac)
 	qp := d.url + "/q/" + strconv.FormatInt(q.ID, 10)
@@ -56,5 +58,26 @@ func TestWithdrawInBrowser(t *testing.T) {
 			t.Errorf("at %d px the history still offers to withdraw the withdrawn judgement", w)
 		}
 		noViolation(fmt.Sprintf("question page with a withdrawn judgement at %d px", w))
+		shots.take(fac, fmt.Sprintf("withdrawn-history-%d", w))
+
+		expert := d.url + "/experts/" + strconv.FormatInt(rv.ExpertID, 10)
+		fac.open(expert)
+		fac.sees("the expert's page", "1 judgement withdrawn", "Withdrawn judgements", "withdrawn", why)
+		fits(t, fac, "the expert's page", w)
+		noViolation(fmt.Sprintf("expert's page with a withdrawn judgement at %d px", w))
+		shots.take(fac, fmt.Sprintf("withdrawn-expert-%d", w))
+		fac.open(qp + "/enter/" + strconv.FormatInt(rv.ExpertID, 10))
+		fac.sees("the entry page", "withdrawn", why)
+		if n := fac.count("table.table-mine s"); n != 1 {
+			t.Errorf("at %d px the entry page's history strikes %d judgements through, want 1", w, n)
+		}
+		fits(t, fac, "the entry page", w)
+		noViolation(fmt.Sprintf("entry page with a withdrawn judgement at %d px", w))
+		shots.take(fac, fmt.Sprintf("withdrawn-entry-%d", w))
+		fac.open(d.url + "#roster")
+		fac.load("revoke…", chromedp.Click(chromedp.CSS(fmt.Sprintf(`form[action$="/experts/%d/revoke"] button.button-danger`, rv.ExpertID))))
+		fac.sees("the revoke page", "One of them is withdrawn and counts for nothing already")
+		noViolation(fmt.Sprintf("revoke page at %d px", w))
+		shots.take(fac, fmt.Sprintf("withdrawn-revoke-%d", w))
 	}
 }

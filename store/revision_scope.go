@@ -24,11 +24,12 @@ const revisionColumns = `r.id, r.question_id, r.expert_id, r.round, r.at, r.reas
 	(SELECT f.fit FROM revision_fits f WHERE f.revision_id = r.id)`
 
 // standing keeps the revisions not withdrawn, for the narrower reads: they
-// serve the pages of one expert's own answers (the expert's pages, the
-// facilitator's entry form and expert page) and the round feedback, where
+// serve the pages of one expert's own answers (the expert's pages) and
+// the round feedback, where
 // a withdrawn judgement is nobody's answer. The whole workshop's read
 // (Revisions) keeps them, marked, for the question's history and the
-// record.
+// record, and so does ExpertHistory for the facilitator's pages of one
+// expert.
 const standing = `NOT EXISTS (SELECT 1 FROM withdrawals x WHERE x.revision_id = r.id)`
 
 // ExpertRevisions returns one expert's revisions on every question of
@@ -36,6 +37,15 @@ const standing = `NOT EXISTS (SELECT 1 FROM withdrawals x WHERE x.revision_id = 
 func (db *DB) ExpertRevisions(ctx context.Context, expertID int64) ([]workshop.Revision, error) {
 	return scanRevisions(db.r.QueryContext(ctx,
 		`SELECT `+revisionColumns+` FROM revisions r WHERE r.expert_id = ? AND `+standing+` ORDER BY r.id`, expertID))
+}
+
+// ExpertHistory returns one expert's revisions on every question of
+// their workshop, withdrawn ones too (Revision.Withdrawn), oldest first:
+// the facilitator's pages of one expert list them, marked, beside the
+// answers that stand.
+func (db *DB) ExpertHistory(ctx context.Context, expertID int64) ([]workshop.Revision, error) {
+	return scanRevisions(db.r.QueryContext(ctx,
+		`SELECT `+revisionColumns+` FROM revisions r WHERE r.expert_id = ? ORDER BY r.id`, expertID))
 }
 
 // QuestionExpertRevisions returns one expert's revisions of one question

@@ -46,6 +46,11 @@ func TestWithdrawRevision(t *testing.T) {
 	if len(own) != 1 || own[0].ID != a1.ID {
 		t.Fatalf("Ada's own revisions %+v, want only her first", own)
 	}
+	// The facilitator's read of one expert keeps it, marked.
+	if hist, err := db.ExpertHistory(ctx, p.experts[0].ID); err != nil || len(hist) != 2 || hist[0].ID != a1.ID || hist[0].Withdrawn ||
+		hist[1].ID != a2.ID || !hist[1].Withdrawn {
+		t.Fatalf("Ada's history %+v, %v; want both, the second marked withdrawn", hist, err)
+	}
 	all, _ := db.Revisions(ctx, p.w.ID)
 	if len(all) != 3 || all[0].Withdrawn || !all[1].Withdrawn || all[2].Withdrawn {
 		t.Fatalf("the workshop's revisions %+v, want the second marked withdrawn", all)

@@ -59,10 +59,12 @@ type entryView struct {
 	Question workshop.Question
 	Expert   workshop.Expert
 	Form     expertQuestionView
-	History  []workshop.Revision // the expert's revisions of the question, newest first
-	Saved    bool
-	Back     string // the question's panel
-	Sheets   map[int64]workshop.SheetSource
+	History  []workshop.Revision // the expert's revisions of the question, newest first, withdrawn ones too
+	// Withdrawn are the withdrawal events of History's withdrawn ones.
+	Withdrawn map[int64]workshop.Event
+	Saved     bool
+	Back      string // the question's panel
+	Sheets    map[int64]workshop.SheetSource
 }
 
 func entryPath(ws, q, e int64) string {
@@ -109,12 +111,32 @@ func (s *Server) chooseEntry(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, entryPath(ws.ID, q.ID, id), http.StatusSeeOther)
 }
 
+// entryRevisions are the expert's revisions of the entry's question,
+// oldest first: all, the withdrawn ones marked, for the page's history,
+// and own, those that stand, whose last is the expert's current answer.
+func (s *Server) entryRevisions(r *http.Request, sc entryScope) (all, own []workshop.Revision, err error) {
+	hist, err := s.store.ExpertHistory(r.Context(), sc.e.ID)
+	if err != nil {
+		return nil, nil, err
+	}
+	for _, rv := range hist {
+		if rv.QuestionID != sc.q.ID {
+			continue
+		}
+		all = append(all, rv)
+		if !rv.Withdrawn {
+			own = append(own, rv)
+		}
+	}
+	return all, own, nil
+}
+
 func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 	sc, ok := s.loadEntry(w, r)
 	if !ok {
 		return
 	}
-	own, err := s.store.QuestionExpertRevisions(r.Context(), sc.q.ID, sc.e.ID)
+	all, own, err := s.entryRevisions(r, sc)
 	if err != nil {
 		s.fail(w, r, err)
 		return
@@ -133,7 +155,7 @@ func (s *Server) entryPage(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	reason, _ := carriedReason(sc.ws, own)
-	v := s.entryView(sc, own, typed, reason, string(channel))
+	v := s.entryView(sc, all, own, typed, reason, string(channel))
 	v.Form.Preview = preview
 	v.Saved = s.takeConfirmation(w, r, entryPath(sc.ws.ID, sc.q.ID, sc.e.ID), doneSaved) == doneSaved
 	s.renderEntry(w, r, http.StatusOK, v)
@@ -167,8 +189,10 @@ func (s *Server) lastChannel(r *http.Request, wsID, expertID int64) (workshop.Ch
 	return last.Channel, nil
 }
 
-// entryView lays out the page around the form with the typed values.
-func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[string]string, reason, channel string) entryView {
+// entryView lays out the page around the form with the typed values:
+// own are the expert's standing revisions of the question, all those and
+// the withdrawn ones, for the history.
+func (s *Server) entryView(sc entryScope, all, own []workshop.Revision, typed map[string]string, reason, channel string) entryView {
 	action := entryPath(sc.ws.ID, sc.q.ID, sc.e.ID)
 	fv := expertQuestionView{
 		Action: action, Title: sc.ws.Title, Round: sc.ws.Round, Open: sc.ws.Open && !sc.e.Revoked, Finished: sc.ws.Archived,
@@ -186,8 +210,8 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 		}
 	}
 	v := entryView{Workshop: sc.ws, Question: sc.q, Expert: sc.e, Form: fv, Back: questionPath(sc.ws.ID, sc.q.ID)}
-	for i := len(own) - 1; i >= 0; i-- {
-		v.History = append(v.History, own[i])
+	for i := len(all) - 1; i >= 0; i-- {
+		v.History = append(v.History, all[i])
 	}
 	return v
 }
@@ -195,6 +219,10 @@ func (s *Server) entryView(sc entryScope, own []workshop.Revision, typed map[str
 func (s *Server) renderEntry(w http.ResponseWriter, r *http.Request, status int, v entryView) {
 	var err error
 	if v.Sheets, err = s.sheetSources(r.Context(), v.Workshop.ID, nil); err != nil {
+		s.fail(w, r, err)
+		return
+	}
+	if v.Withdrawn, err = s.withdrawals(r.Context(), v.Workshop.ID, v.History); err != nil {
 		s.fail(w, r, err)
 		return
 	}
@@ -248,12 +276,12 @@ func (s *Server) entryPreview(w http.ResponseWriter, r *http.Request) {
 
 // entryAgain draws the page again with the typed values and messages.
 func (s *Server) entryAgain(w http.ResponseWriter, r *http.Request, sc entryScope, f *Form, status int, notice string, p *previewView) {
-	own, err := s.store.QuestionExpertRevisions(r.Context(), sc.q.ID, sc.e.ID)
+	all, own, err := s.entryRevisions(r, sc)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
-	v := s.entryView(sc, own, formValues(f), f.Value("reason"), f.Value("channel"))
+	v := s.entryView(sc, all, own, formValues(f), f.Value("reason"), f.Value("channel"))
 	if !v.Form.Frozen {
 		applyErrors(&v.Form.Form, f)
 		v.Form.OnBehalf.ChannelError = f.Error("channel")
@@ -344,12 +372,25 @@ type expertView struct {
 	Expert   workshop.Expert
 	Rows     []expertViewRow
 	Sheets   map[int64]workshop.SheetSource
+	// Withdrawn lists the expert's withdrawn judgements, question by
+	// question, oldest first, apart from the answers that stand;
+	// Withdrawals holds their withdrawal events.
+	Withdrawn   []withdrawnRow
+	Withdrawals map[int64]workshop.Event
 }
 
 type expertViewRow struct {
 	Question workshop.Question
-	Current  *workshop.Revision
+	Current  *workshop.Revision // the expert's current answer: their latest that stands
 	Enter    string
+	// Withdrawn counts the expert's withdrawn judgements on the question.
+	Withdrawn int
+}
+
+// withdrawnRow is one withdrawn judgement on the expert's page.
+type withdrawnRow struct {
+	Question workshop.Question
+	Revision workshop.Revision
 }
 
 // noAnswer is what a row without an answer says (noAnswerIn).
@@ -383,12 +424,16 @@ func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
 		s.fail(w, r, err)
 		return
 	}
-	revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+	revs, err := s.store.ExpertHistory(r.Context(), e.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return
 	}
 	v := expertView{Workshop: ws, Expert: e}
+	if v.Withdrawals, err = s.withdrawals(r.Context(), ws.ID, revs); err != nil {
+		s.fail(w, r, err)
+		return
+	}
 	if v.Sheets, err = s.sheetSources(r.Context(), ws.ID, nil); err != nil {
 		s.fail(w, r, err)
 		return
@@ -398,8 +443,13 @@ func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
 			continue
 		}
 		row := expertViewRow{Question: q, Enter: entryPath(ws.ID, q.ID, e.ID)}
-		for i := range revs {
-			if revs[i].QuestionID == q.ID {
+		for i, rv := range revs {
+			switch {
+			case rv.QuestionID != q.ID:
+			case rv.Withdrawn:
+				row.Withdrawn++
+				v.Withdrawn = append(v.Withdrawn, withdrawnRow{Question: q, Revision: rv})
+			default:
 				row.Current = &revs[i]
 			}
 		}

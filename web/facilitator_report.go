@@ -23,6 +23,8 @@ type reportView struct {
 	// Percent holds the revisions typed in percentages, whose values the
 	// report writes as typed (9%, not 0.09).
 	Percent map[int64]bool
+	// Withdrawn are the withdrawal events of the withdrawn revisions.
+	Withdrawn map[int64]workshop.Event
 }
 
 func (s *Server) report(w http.ResponseWriter, r *http.Request) {
@@ -36,7 +38,7 @@ func (s *Server) report(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	v := reportView{Record: rec, Experts: map[int64]workshop.Expert{}, Charts: map[int64]picture{},
-		Chain: fingerprint.Of(rec.Facts())}
+		Chain: fingerprint.Of(rec.Facts()), Withdrawn: workshop.Withdrawals(rec.Events)}
 	for _, e := range rec.Experts {
 		v.Experts[e.ID] = e
 	}

@@ -134,8 +134,10 @@ func (s *Server) loadExpert(w http.ResponseWriter, r *http.Request, ws workshop.
 type revokeView struct {
 	Workshop workshop.Workshop
 	Expert   workshop.Expert
-	Answers  int
-	Form     *Form
+	// Answers counts the expert's saved answers, Withdrawn those of them
+	// withdrawn, which count for nothing already.
+	Answers, Withdrawn int
+	Form               *Form
 }
 
 // revokeExpert ends an expert's access; their judgements stay in the
@@ -226,17 +228,23 @@ func (s *Server) confirmed(w http.ResponseWriter, r *http.Request, ws workshop.W
 	if f.OK() && f.Value("confirm") == "yes" {
 		return true
 	}
-	revs, err := s.store.ExpertRevisions(r.Context(), e.ID)
+	revs, err := s.store.ExpertHistory(r.Context(), e.ID)
 	if err != nil {
 		s.fail(w, r, err)
 		return false
+	}
+	withdrawn := 0
+	for _, rv := range revs {
+		if rv.Withdrawn {
+			withdrawn++
+		}
 	}
 	status := http.StatusOK
 	if !f.OK() {
 		status = http.StatusUnprocessableEntity
 	}
 	s.renderPage(w, r, status, facilitatorMeta(ws, title, "overview"),
-		page(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Form: f}))
+		page(revokeView{Workshop: ws, Expert: e, Answers: len(revs), Withdrawn: withdrawn, Form: f}))
 	return false
 }
 

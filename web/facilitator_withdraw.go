@@ -29,7 +29,9 @@ type withdrawView struct {
 	Priors []workshop.AgreedPrior
 	// Refused says why it cannot be withdrawn ("" when it can).
 	Refused string
-	Form    *Form
+	// Withdrawn holds Revision's withdrawal when it is withdrawn already.
+	Withdrawn map[int64]workshop.Event
+	Form      *Form
 }
 
 // withdrawPath is the page that withdraws revision rv of question q.
@@ -106,6 +108,10 @@ func (s *Server) showWithdraw(w http.ResponseWriter, r *http.Request, status int
 	}
 	if err := workshop.CheckWithdrawal(ws, q, v.Revision, "a reason"); err != nil {
 		v.Refused = withdrawRefusal(err)
+	}
+	if v.Withdrawn, err = s.withdrawals(r.Context(), ws.ID, []workshop.Revision{v.Revision}); err != nil {
+		s.fail(w, r, err)
+		return
 	}
 	if v.Sheets, err = s.sheetSources(r.Context(), ws.ID, d.Revisions); err != nil {
 		s.fail(w, r, err)

@@ -76,6 +76,9 @@ type Store interface {
 	ExpertRevisions(ctx context.Context, expertID int64) ([]workshop.Revision, error)
 	QuestionExpertRevisions(ctx context.Context, questionID, expertID int64) ([]workshop.Revision, error)
 	LatestRevisions(ctx context.Context, questionID int64, through int) ([]workshop.Revision, error)
+	// ExpertHistory is one expert's revisions with the withdrawn ones
+	// (Revision.Withdrawn), for the facilitator's pages of one expert.
+	ExpertHistory(ctx context.Context, expertID int64) ([]workshop.Revision, error)
 	// SetReasonWithheld withholds a revision's reason from the round
 	// feedback and the room view, or shows it again.
 	SetReasonWithheld(ctx context.Context, revisionID int64, withheld bool, reason string) error

@@ -3,6 +3,8 @@ package web
 import (
 	"context"
 	"encoding/csv"
+	"fmt"
+	"html"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -270,7 +272,7 @@ func TestReportAndCSVMarkAWithdrawnJudgement(t *testing.T) {
 	if res, body := h.post(withdrawPath(ws.ID, qs[0].ID, gone.ID), url.Values{"reason": {why}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("withdraw: %d %s", res.StatusCode, body)
 	}
-	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(report, "</s> (withdrawn ") || !strings.Contains(report, why) {
+	if _, report := h.get(workshopPath(ws.ID) + "/report"); !strings.Contains(report, `</s> <span class="tag tag-warn">withdrawn</span>`) || !strings.Contains(report, why) {
 		t.Error("the report's history does not mark the withdrawn judgement with its reason")
 	}
 	_, body := h.get(workshopPath(ws.ID) + "/export.csv")
@@ -304,7 +306,8 @@ func TestReportAndCSVMarkAWithdrawnJudgement(t *testing.T) {
 
 // The entry page, where a judgement typed against the wrong expert is
 // seen first, offers to withdraw each of the expert's standing
-// judgements on the question, and no longer lists one withdrawn.
+// judgements on the question, and no longer offers it for one withdrawn
+// (which it lists, marked).
 func TestEntryPageOffersTheWithdrawal(t *testing.T) {
 	h, ws, qs, _, _ := seeded(t)
 	ctx := context.Background()
@@ -319,6 +322,131 @@ func TestEntryPageOffersTheWithdrawal(t *testing.T) {
 		t.Fatalf("withdraw: %d %s", res.StatusCode, body)
 	}
 	if _, body := h.get(entry); strings.Contains(body, `href="`+page+`"`) {
-		t.Error("the entry page still lists the withdrawn judgement")
+		t.Error("the entry page still offers to withdraw the withdrawn judgement")
+	}
+}
+
+// A withdrawn judgement is listed, marked one way, on every page of the
+// facilitator's that lists judgements: the question's history, the
+// entry page, the expert's page, the withdrawal page and the report each
+// hold the same marks (judgementAnswer, judgementReason), never as the
+// expert's answer: the entry page's form and the expert's page show the
+// earlier answer that stands, and offer no withdrawal of the withdrawn
+// one. The revoke and new-link pages count it among the expert's
+// answers as withdrawn.
+func TestWithdrawnJudgementsAreListedWhereTheFacilitatorLooks(t *testing.T) {
+	h, ws, qs, es, links := seeded(t)
+	ctx := context.Background()
+	q := qs[0]
+	var e workshop.Expert
+	for _, x := range es {
+		if x.Name == links[0].Name {
+			e = x
+		}
+	}
+	if r, body := h.post(links[0].Path+"q/"+strconv.FormatInt(q.ID, 10)+"/save", url.Values{
+		"values[0]": {"0.0313"}, "values[1]": {"0.0717"}, "values[2]": {"0.1719"}, "reason": {"Typed on the wrong form (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("save: %d %s", r.StatusCode, body)
+	}
+	own, _ := h.db.QuestionExpertRevisions(ctx, q.ID, e.ID)
+	wrong, earlier := own[len(own)-1], own[len(own)-2]
+	why := "Read from another expert's paper form (invented)."
+	if r, body := h.post(withdrawPath(ws.ID, q.ID, wrong.ID), url.Values{"reason": {why}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withdraw: %d %s", r.StatusCode, body)
+	}
+	all, _ := h.db.Revisions(ctx, ws.ID)
+	for _, rv := range all {
+		if rv.ID == wrong.ID {
+			wrong = rv
+		}
+	}
+	evs, _ := h.db.Events(ctx, ws.ID)
+	var answer, reason strings.Builder
+	if err := judgementAnswer(q, wrong).Render(ctx, &answer); err != nil {
+		t.Fatal(err)
+	}
+	if err := judgementReason(wrong, workshop.Withdrawals(evs)).Render(ctx, &reason); err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(answer.String(), "</s> <span class=\"tag tag-warn\">withdrawn</span>") || !strings.Contains(reason.String(), "Withdrawn ") ||
+		!strings.Contains(reason.String(), html.EscapeString(why)) {
+		t.Fatalf("the marks: %q, %q", answer.String(), reason.String())
+	}
+	entry := entryPath(ws.ID, q.ID, e.ID)
+	expert := workshopPath(ws.ID) + "/experts/" + strconv.FormatInt(e.ID, 10)
+	for _, path := range []string{questionPath(ws.ID, q.ID), entry, expert, withdrawPath(ws.ID, q.ID, wrong.ID), workshopPath(ws.ID) + "/report"} {
+		_, body := h.get(path)
+		if !strings.Contains(body, answer.String()) || !strings.Contains(body, reason.String()) {
+			t.Errorf("%s does not mark the withdrawn judgement as the history does", path)
+		}
+		if strings.Contains(body, `href="`+withdrawPath(ws.ID, q.ID, wrong.ID)+`"`) {
+			t.Errorf("%s offers to withdraw the withdrawn judgement", path)
+		}
+	}
+	// Never the expert's answer: the entry form holds the earlier one's
+	// values, and the expert's page shows it as current.
+	earlierMedian := strconv.FormatFloat(earlier.Answer.Values[1], 'f', -1, 64)
+	_, body := h.get(entry)
+	form, _, _ := strings.Cut(body, `<section class="history">`)
+	if strings.Contains(form, "0.0717") || !strings.Contains(form, `value="`+earlierMedian+`"`) {
+		t.Errorf("the entry form does not hold the answer that stands (median %s)", earlierMedian)
+	}
+	_, body = h.get(expert)
+	current, _, found := strings.Cut(body, `<section id="withdrawn">`)
+	if !found {
+		t.Error("the expert's page has no list of withdrawn judgements")
+	}
+	if strings.Contains(current, "0.0717") || !strings.Contains(current, html.EscapeString(answerSummary(q, earlier.Answer))) ||
+		!strings.Contains(current, `<a class="withdrawn-count" href="#withdrawn">1 judgement withdrawn</a>`) {
+		t.Errorf("the expert's page does not show the answer that stands with the count of the withdrawn")
+	}
+	// The revoke and new-link pages count it.
+	mine, _ := h.db.ExpertHistory(ctx, e.ID)
+	n := len(mine)
+	for path, want := range map[string]string{
+		"revoke":  fmt.Sprintf("Their %d saved answers stay in the record. One of them is withdrawn and counts for nothing already; the other %d leave the pool", n, n-1),
+		"reissue": fmt.Sprintf("Their %d saved answers (1 of them withdrawn) stay as they are.", n),
+	} {
+		if _, body := h.post(expertActionPath(ws.ID, e.ID, path), url.Values{}); !strings.Contains(html.UnescapeString(body), want) {
+			t.Errorf("the %s page does not say %q", path, want)
+		}
+	}
+}
+
+// What revoking or a new link does to an expert's answers, some of them
+// withdrawn, in words that agree in number.
+func TestAnswersSentencesCountTheWithdrawn(t *testing.T) {
+	for _, c := range []struct {
+		answers, withdrawn   int
+		revoke, rejoin, kept string
+	}{
+		{1, 0, "Their 1 saved answer stays in the record, but it leaves the pool, the round feedback and the calibration scores.",
+			"Their 1 saved answer counts again, as it stands, in the pool, the round feedback and the calibration scores.",
+			"Their 1 saved answer stays as it is."},
+		{1, 1, "Their 1 saved answer stays in the record; it is withdrawn, so it counts for nothing already.",
+			"Their 1 saved answer is withdrawn, so it does not count again.",
+			"Their 1 saved answer, withdrawn, stays as it is."},
+		{2, 2, "Their 2 saved answers stay in the record; both are withdrawn, so they count for nothing already.",
+			"Their 2 saved answers are both withdrawn, so none counts again.",
+			"Their 2 saved answers, both withdrawn, stay as they are."},
+		{2, 1, "Their 2 saved answers stay in the record. One of them is withdrawn and counts for nothing already; the other one leaves the pool, the round feedback and the calibration scores.",
+			"Of their 2 saved answers, the one not withdrawn counts again, as it stands, in the pool, the round feedback and the calibration scores; the withdrawn one does not.",
+			"Their 2 saved answers (1 of them withdrawn) stay as they are."},
+		{3, 3, "Their 3 saved answers stay in the record; all 3 are withdrawn, so they count for nothing already.",
+			"Their 3 saved answers are all withdrawn, so none counts again.",
+			"Their 3 saved answers, all withdrawn, stay as they are."},
+		{5, 2, "Their 5 saved answers stay in the record. 2 of them are withdrawn and count for nothing already; the other 3 leave the pool, the round feedback and the calibration scores.",
+			"Of their 5 saved answers, the 3 not withdrawn count again, as they stand, in the pool, the round feedback and the calibration scores; the 2 withdrawn do not.",
+			"Their 5 saved answers (2 of them withdrawn) stay as they are."},
+	} {
+		if got := revokedAnswers(c.answers, c.withdrawn); got != c.revoke {
+			t.Errorf("revoke %d/%d: %q", c.withdrawn, c.answers, got)
+		}
+		if got := rejoinSentence(c.answers, c.withdrawn); got != c.rejoin {
+			t.Errorf("rejoin %d/%d: %q", c.withdrawn, c.answers, got)
+		}
+		if got := keptSentence(c.answers, c.withdrawn); got != c.kept {
+			t.Errorf("kept %d/%d: %q", c.withdrawn, c.answers, got)
+		}
 	}
 }
