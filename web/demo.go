@@ -80,8 +80,8 @@ var (
 var (
 	demoConsensus = []float64{0.015, 0.045, 0.11}
 	demoRationale = "INVENTED. In discussion the panel set aside the narrowest range as too sure for a model with no field history, " +
-		"and settled on a median near the older model's 4.1% with a long upper tail for early-life faults. Agreed before Priya Raman had answered; " +
-		"to be reviewed when she has."
+		"and settled on a median near the older model's 4.1% with a long upper tail for early-life faults. Agreed before the fourth expert had answered; " +
+		"to be reviewed when that answer is in."
 )
 
 // demoNotes is the demo workshop's facilitator notes, with the number of

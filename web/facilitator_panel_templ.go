@@ -2641,7 +2641,7 @@ func agreedSection(v panelView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale", "Why the panel settled on this prior: the discussion, the disagreements, what was weighed.", true).Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale", "Why the panel settled on this prior: the discussion, the disagreements, what was weighed. The room view shows it with the prior, so name no expert in it.", true).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

@@ -1205,7 +1205,7 @@ func quickAgreeForm(v quickView) templ.Component {
 				}
 			}
 		}
-		templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale", "Why this prior: where the numbers come from, what was weighed.", true).Render(ctx, templ_7745c5c3_Buffer)
+		templ_7745c5c3_Err = textArea(v.AgreeForm, "rationale", "Rationale", "Why this prior: where the numbers come from, what was weighed. The room view shows it with the prior.", true).Render(ctx, templ_7745c5c3_Buffer)
 		if templ_7745c5c3_Err != nil {
 			return templ_7745c5c3_Err
 		}

@@ -4,6 +4,7 @@ import (
 	"net/http"
 	"strconv"
 	"strings"
+	"unicode"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
@@ -29,6 +30,35 @@ type roomPrior struct {
 	// Made says in one sentence how and when it was agreed, with its
 	// Beta, for the statisticians in the room.
 	Made string
+	// Rationale is the rationale the facilitator recorded with the
+	// prior, as written (the page escapes it and keeps its line breaks),
+	// cut at a word after roomRationaleChars characters; Cut says so.
+	Rationale string
+	Cut       bool
+}
+
+// roomRationaleChars is the most of a rationale the prior display shows.
+// A rationale may have 4,000 characters (input.MaxLongText); under the
+// curve on a 1024×768 projector about 400 fit in five lines without
+// shrinking the picture much, and nobody scrolls a projector. A longer
+// one is cut at a word, and the display says where the whole is.
+const roomRationaleChars = 400
+
+// cutAtWord is text cut at a space at or before max characters (runes),
+// and whether it was cut; a text with no space there is cut at max.
+func cutAtWord(text string, max int) (string, bool) {
+	rs := []rune(text)
+	if len(rs) <= max {
+		return text, false
+	}
+	cut := max
+	for i := max; i > max/2; i-- {
+		if unicode.IsSpace(rs[i]) {
+			cut = i
+			break
+		}
+	}
+	return strings.TrimRightFunc(string(rs[:cut]), unicode.IsSpace), true
 }
 
 // priorLead stands in the header's first line of a question with an
@@ -84,8 +114,9 @@ func (s *Server) fillRoomPrior(r *http.Request, q workshop.Question, v *roomView
 	}
 	made += " as Beta(α = " + sv(d.Alpha) + ", β = " + sv(d.Beta.Beta) + ") on [" + lower + ", " + upper + "], " + roomPriorOrigin(a.Source) + "."
 	p := &roomPrior{Median: ps[1], Low: ps[0], High: ps[2], Units: strings.TrimSpace(q.Units), Quantity: q.Quantity, Made: made}
+	p.Rationale, p.Cut = cutAtWord(strings.TrimSpace(a.Rationale), roomRationaleChars)
 	p.Panel = chart.PanelView{ID: "room-prior-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: d.Lower, Upper: d.Upper,
-		Curves: []chart.Curve{{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: d}}, Room: true}
+		Curves: []chart.Curve{{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: d}}, Room: true, Marked: true}
 	if q.Frozen() && q.TrueValue != nil {
 		t := *q.TrueValue
 		p.Panel.Truth = &t

@@ -41,6 +41,43 @@ type PanelView struct {
 	// legend, and its wide drawing stands the legend beside the plots,
 	// where a projector's wide screen has room, rather than under them.
 	Room bool
+	// Marked marks the first curve's median and its 90% interval (from
+	// its 5% to its 95% point) on the picture: a shaded band over both
+	// plots between the interval's ends and a solid upright line at the
+	// median, each named with its values in the legend and the caption.
+	// The room's display of the agreed prior marks its one curve so: a
+	// room reads the prior's median and interval off the screen, which
+	// the curve alone leaves to the eye. In the room (Room) the legend
+	// leaves the marks to the page, which names them in its own type
+	// beside samples drawn as the marks are (MarkSample).
+	Marked bool
+}
+
+// marksGeom is the marked curve's median and 90% interval as a Panel
+// drawing lays them out (PanelView.Marked).
+type marksGeom struct {
+	BandX, BandW     string // the interval's band, over both plots
+	DensY, DensH     string
+	CumulY, CumulH   string
+	LowX, HighX      string // the interval's ends
+	MedX, Y1, Y2     string // the median's line, through both plots
+	Stroke           string
+	Median, Interval markLegend
+}
+
+// markLegend is a mark's entry in the legend: its sample (a line, or the
+// band's swatch) from X1 to X2 on row Y, and its words.
+type markLegend struct {
+	X1, X2, Y, TextX, TextY string
+	SwatchY, SwatchW        string
+	Label                   string
+}
+
+// markWords are the legend's words for the marked curve's points p
+// (5%, median, 95%), written by values as the curves' table writes them.
+func markWords(p [3]float64, values func(xs ...float64) []string) (median, interval string) {
+	ps := values(p[0], p[1], p[2])
+	return "median " + ps[1], "90% interval " + ps[0] + " to " + ps[2]
 }
 
 // expertPanelWords are fitWords for a picture of several curves, whose
@@ -106,6 +143,7 @@ type panelDrawing struct {
 	Twin   twinGeom
 	Legend []legendGeom
 	Truth  *truthGeom // the revealed true value's line, nil without one
+	Marks  *marksGeom // PanelView.Marked's marks, nil without
 }
 
 // truthGeom is the true value's upright line and, where the picture
@@ -213,15 +251,27 @@ func newPanelModel(v PanelView) panelModel {
 		if t := v.truth(); t != nil {
 			d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
 		}
+		// The marks are named in the legend, except in the room, whose
+		// page names them beside the picture in its own type (the
+		// picture's legend read at 11 px on a 1024×768 projector).
+		var marks []string
+		if v.Marked && !v.Room {
+			med, iv := markWords(d.Twin.percentiles[0], v.values)
+			marks = []string{med, iv}
+		}
+		var slots []legendSlot
 		switch {
 		case v.Room && lay.Name == wideLayout.Name:
 			d.Twin.withoutNotes()
-			d.Legend = sideLegend(&d.Twin, curves, v.values)
+			d.Legend, slots = sideLegend(&d.Twin, curves, marks, v.values)
 		case v.Room:
 			d.Twin.withoutNotes()
-			d.Legend = panelLegend(&d.Twin, curves, v.values)
+			d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
 		default:
-			d.Legend = panelLegend(&d.Twin, curves, v.values)
+			d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
+		}
+		if v.Marked {
+			d.Marks = newMarks(d.Twin, marks, slots)
 		}
 		m.Drawings = append(m.Drawings, d)
 	}
@@ -262,6 +312,10 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	if t := v.truth(); t != nil {
 		b.WriteString(truthWords(v.value(*t)) + " ")
+	}
+	if v.Marked {
+		med, iv := markWords(g.percentiles[0], v.values)
+		fmt.Fprintf(&b, "The shaded band is the %s of %s, and the solid upright line its %s. ", iv, curves[0].proseName(), med)
 	}
 	for _, n := range g.Notes {
 		b.WriteString(n + " ")
@@ -326,8 +380,9 @@ func sameCurves(curves []Curve) []string {
 // panelLegend lays the legend out under g's plots, in the layout's
 // columns, and makes room for it: the picture keeps the plots' width and
 // its text stays legible when a phone shrinks it. values writes a curve's
-// percentiles, one range.
-func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []string) []legendGeom {
+// percentiles, one range. The marks' entries (PanelView.Marked) follow
+// the curves', one to a row, at the slots returned.
+func panelLegend(g *twinGeom, curves []Curve, marks []string, values func(xs ...float64) []string) ([]legendGeom, []legendSlot) {
 	lay := g.Layout
 	top := g.Height + 4
 	cols := lay.LegendCols
@@ -338,10 +393,19 @@ func panelLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []strin
 		y := top + float64(i/cols)*24
 		out = append(out, legendEntry(g, i, c, x, y, 38, values))
 	}
-	g.Height = top + float64((len(curves)+cols-1)/cols)*24 + 8
+	rows := (len(curves) + cols - 1) / cols
+	var slots []legendSlot
+	for i := range marks {
+		slots = append(slots, legendSlot{X: lay.Left / 2, Y: top + float64(rows+i)*24, Sample: 38})
+	}
+	g.Height = top + float64(rows+len(marks))*24 + 8
 	g.ViewBox = "0 0 " + coord(lay.width()) + " " + coord(g.Height)
-	return out
+	return out, slots
 }
+
+// legendSlot is where a legend entry that is not a curve's stands: its
+// sample from X on row Y, Sample units long, its words after it.
+type legendSlot struct{ X, Y, Sample float64 }
 
 // sideLegendPx is the font size a legend beside the plots is laid out
 // for: a unit above the room's 16px (.room-chart .chart-svg
@@ -356,12 +420,13 @@ const sideLegendPx = 17
 // are shorter than under the plots, and the picture ends just under the
 // x axis's title: on a 1280×720 projector the picture's width is what
 // sets the size of its text.
-func sideLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []string) []legendGeom {
+func sideLegend(g *twinGeom, curves []Curve, marks []string, values func(xs ...float64) []string) ([]legendGeom, []legendSlot) {
 	const sample = 30
 	lay := g.Layout
 	top := g.dens.Top + 8
 	x := lay.Left + lay.PlotW + 12
-	if top+float64(len(curves))*24 > g.cumul.bottom() {
+	rows := len(curves) + len(marks)
+	if top+float64(rows)*24 > g.cumul.bottom() {
 		x = lay.width()
 	}
 	widest := 0.0
@@ -370,13 +435,42 @@ func sideLegend(g *twinGeom, curves []Curve, values func(xs ...float64) []string
 		out = append(out, legendEntry(g, i, c, x, top+float64(i)*24, sample, values))
 		widest = math.Max(widest, labelEm(c.Label, false)*sideLegendPx)
 	}
+	var slots []legendSlot
+	for i, m := range marks {
+		slots = append(slots, legendSlot{X: x, Y: top + float64(len(curves)+i)*24, Sample: sample})
+		widest = math.Max(widest, labelEm(m, false)*sideLegendPx)
+	}
 	// The layout's right margin takes the column, so a picture drawn to
 	// share this one's x axis (the spread's strip) is as wide.
 	g.Layout.Right = math.Max(lay.Right, x+sample+8+widest+4-lay.Left-lay.PlotW)
 	title := g.cumul.bottom() + 42 + 17*float64(max(0, len(g.XTitleLines)-1))
-	g.Height = math.Max(title+8, top+float64(len(curves))*24)
+	g.Height = math.Max(title+8, top+float64(rows)*24)
 	g.ViewBox = "0 0 " + coord(g.Layout.width()) + " " + coord(g.Height)
-	return out
+	return out, slots
+}
+
+// newMarks lays out the first curve's median and 90% interval over g's
+// plots (PanelView.Marked), named by words (the median's, the
+// interval's) at the legend's slots.
+func newMarks(g twinGeom, words []string, slots []legendSlot) *marksGeom {
+	p := g.percentiles[0]
+	lo, med, hi := g.dens.px(p[0]), g.dens.px(p[1]), g.dens.px(p[2])
+	m := &marksGeom{
+		BandX: coord(lo), BandW: coord(math.Max(1, hi-lo)),
+		DensY: coord(g.dens.Top), DensH: coord(g.dens.Height),
+		CumulY: coord(g.cumul.Top), CumulH: coord(g.cumul.Height),
+		LowX: coord(lo), HighX: coord(hi),
+		MedX: coord(med), Y1: coord(g.dens.Top), Y2: coord(g.cumul.bottom()),
+		Stroke: g.Lines[0].Stroke,
+	}
+	entry := func(s legendSlot, label string) markLegend {
+		return markLegend{X1: coord(s.X), X2: coord(s.X + s.Sample), Y: coord(s.Y), TextX: coord(s.X + s.Sample + 8), TextY: coord(s.Y + 5),
+			SwatchY: coord(s.Y - 7), SwatchW: coord(s.Sample), Label: label}
+	}
+	if len(slots) == 2 {
+		m.Median, m.Interval = entry(slots[0], words[0]), entry(slots[1], words[1])
+	}
+	return m
 }
 
 // legendEntry is the i-th curve's legend entry: a sample sample units
