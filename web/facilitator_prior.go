@@ -139,12 +139,26 @@ func (st questionState) poolChange(then *workshop.Weights) (workshop.PoolChange,
 
 // poolChangeText is poolChangeWords for question state st, its experts
 // named from es; "" when the pool under its agreed prior has not
-// changed. The weight set the prior was agreed under is read only when
-// another is in force.
+// changed.
 func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st questionState, es []workshop.Expert, at againAt) (string, error) {
+	c, ok, err := s.poolChangeOf(ctx, ws, st)
+	if err != nil || !ok {
+		return "", err
+	}
+	at.Retired, at.Archived = st.Question.Retired, ws.Archived
+	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }, at), nil
+}
+
+// poolChangeOf is how the pool under st's agreed prior in force has
+// changed since it was agreed (questionState.poolChange), the one rule
+// the facilitator's panel, the study page and the room's prior display
+// read; false when the prior is not from the pool or nothing can be
+// compared. The weight set the prior was agreed under is read only when
+// another is in force.
+func (s *Server) poolChangeOf(ctx context.Context, ws workshop.Workshop, st questionState) (workshop.PoolChange, bool, error) {
 	a := st.current()
 	if a == nil || a.Source != workshop.PriorFromPool {
-		return "", nil
+		return workshop.PoolChange{}, false, nil
 	}
 	var then *workshop.Weights
 	switch {
@@ -155,16 +169,12 @@ func (s *Server) poolChangeText(ctx context.Context, ws workshop.Workshop, st qu
 	default:
 		sets, err := s.store.WeightHistory(ctx, ws.ID)
 		if err != nil {
-			return "", err
+			return workshop.PoolChange{}, false, err
 		}
 		then = weightSetByID(sets, a.WeightSetID)
 	}
 	c, ok := st.poolChange(then)
-	if !ok {
-		return "", nil
-	}
-	at.Retired, at.Archived = st.Question.Retired, ws.Archived
-	return poolChangeWords(c, func(id int64) string { return expertName(es, id) }, at), nil
+	return c, ok, nil
 }
 
 // weightSetByID is the set of sets with the given ID, or nil.

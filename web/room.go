@@ -146,7 +146,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	room := roomPath(ws.ID, q.ID)
-	if err := s.fillRoomPrior(r, q, &v, room, show == "prior"); err != nil {
+	if err := s.fillRoomPrior(r, ws, q, &v, room, show == "prior"); err != nil {
 		s.fail(w, r, err)
 		return
 	}

@@ -35,6 +35,10 @@ type roomPrior struct {
 	// cut at a word after roomRationaleChars characters; Cut says so.
 	Rationale string
 	Cut       bool
+	// Changed says, when the prior was taken from the pool and the pool
+	// has moved since (poolChangeOf), what moved, naming nobody; "" when
+	// it has not.
+	Changed string
 }
 
 // roomRationaleChars is the most of a rationale the prior display shows.
@@ -71,7 +75,7 @@ const priorLead = "a prior has been agreed:"
 // calibration question whose answers are held back shows none, since a
 // prior from the pool would show the panel's answers; and a prior taken
 // from one expert's answer alone is not shown (roomLeastAnswers).
-func (s *Server) fillRoomPrior(r *http.Request, q workshop.Question, v *roomView, room string, show bool) error {
+func (s *Server) fillRoomPrior(r *http.Request, ws workshop.Workshop, q workshop.Question, v *roomView, room string, show bool) error {
 	v.ShowPrior = show
 	if show {
 		v.Prev, v.PrevWords, v.Back = room, "← back to the picture", room
@@ -122,8 +126,47 @@ func (s *Server) fillRoomPrior(r *http.Request, q workshop.Question, v *roomView
 		p.Panel.Truth = &t
 	}
 	p.Notes = chart.PanelNotes(p.Panel)
+	// The rule the facilitator's panel and the priors CSV's pool_changed
+	// follow: the room was shown the prior agreed from a pool that is no
+	// longer the panel's, as if it were.
+	data, err := s.readWorkshopData(r.Context(), ws)
+	if err != nil {
+		return err
+	}
+	c, ok, err := s.poolChangeOf(r.Context(), ws, data.state(q))
+	if err != nil {
+		return err
+	}
+	if ok {
+		p.Changed = roomPoolChangeWords(c)
+	}
 	v.Prior, v.PriorMissing = p, ""
 	return nil
+}
+
+// roomPoolChangeWords says on the projector that the pool a prior was
+// agreed from has changed since (c, poolChangeOf), counting what moved
+// and naming nobody, as the room names no expert: the facilitator's
+// panel names them (poolChangeWords). "" when nothing changed.
+func roomPoolChangeWords(c workshop.PoolChange) string {
+	if !c.Any() {
+		return ""
+	}
+	var parts []string
+	count := func(n int, one, many string) {
+		if n > 0 {
+			parts = append(parts, numberWord(n)+" "+plural(n, one, many))
+		}
+	}
+	count(len(c.Revised), "expert has revised their answer", "experts have revised their answers")
+	count(len(c.Joined), "expert's answer has joined the pool", "experts' answers have joined the pool")
+	count(len(c.Left), "expert's answer has left the pool", "experts' answers have left the pool")
+	count(len(c.Withdrawn), "pooled judgement has been withdrawn", "pooled judgements have been withdrawn")
+	if c.Weights {
+		parts = append(parts, "other weights are in force")
+	}
+	return "The pool has changed since this prior was agreed: " + wordList(parts) + ". " +
+		"The prior shown is still the single Beta of the pool as it stood then, not of the experts' answers as they stand now."
 }
 
 // roomPriorOrigin says where an agreed prior came from, in the room's
