@@ -51,6 +51,13 @@ func TestCorrectedEntryKeepsTheExpertsReasoning(t *testing.T) {
 	q := h.addQuantileQuestion(t, ws.ID, "What share of culverts are blocked?", "blocked culvert share")
 	ada, _ := h.addExpert(ws, "Ada Quell")
 	_, bruno := h.addExpert(ws, "Bruno Ferrante")
+	// Chiara answers too: Bruno reads the others' answers only when two
+	// of them answered (othersShown).
+	chiara, _ := h.addExpert(ws, "Chiara Osei")
+	if r, body := h.post(entryPath(ws.ID, q.ID, chiara.ID)+"/save", url.Values{"channel": {"paper_form"}, "unit": {"proportion"},
+		"values[0]": {"0.03"}, "values[1]": {"0.08"}, "values[2]": {"0.2"}, "reason": {"Road crew notes (invented)."}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatalf("Chiara's entry: %d %s", r.StatusCode, body)
+	}
 	page := entryPath(ws.ID, q.ID, ada.ID)
 	const why = "Drone survey of two valleys (invented)."
 	typo := url.Values{"channel": {"paper_form"}, "unit": {"proportion"}, "values[0]": {"0.02"}, "values[1]": {"0.05"}, "values[2]": {"0.9"}, "reason": {why}}

@@ -150,6 +150,9 @@ type expertQuestionView struct {
 	// OwnCurve says the panel includes the expert's own current curve;
 	// without it the feedback's words do not promise one.
 	OwnCurve bool
+	// FewOthers says, in the panel's place, that too few other experts
+	// had answered for their answers to be shown (othersShown).
+	FewOthers string
 	// OwnLabel is the expert's label in the panel fed back ("Expert C"),
 	// "" when they are not in it: the label is left out of their own
 	// page, where their curve is "You", and the words above it name it.
@@ -1328,7 +1331,9 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		v.PanelMissing = true
 		return
 	}
-	if fb == nil {
+	others, ok := fb.othersShown(sc.expert.ID)
+	if !ok {
+		v.FewOthers = fewOthersNote(len(others), v.FeedbackRound)
 		return
 	}
 	q := sc.question
@@ -1343,20 +1348,14 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 		}
 		percent = sc.own[n-1].Answer.Percent && q.ValuesInPercent()
 	}
-	var others []feedbackMember
 	// The expert's own curve is drawn in their letter's style, as the
 	// projector draws it; one not in the panel fed back takes the style
 	// after every letter's.
 	ownSlot := fb.lettered + 1
 	for _, m := range fb.members {
-		if m.expertID != sc.expert.ID {
-			others = append(others, m)
-		} else {
+		if m.expertID == sc.expert.ID {
 			v.OwnLabel, ownSlot = m.label, m.slot
 		}
-	}
-	if len(others) == 0 {
-		return
 	}
 	var curves []chart.Curve
 	if own != nil {
@@ -1495,6 +1494,42 @@ func (fb *feedback) reasons(except int64) []feedbackReason {
 		}
 	}
 	return out
+}
+
+// othersShown is the rule every expert's round feedback follows, on the
+// question's page, the page a no-script "Show the fit" returns and a
+// refused save alike (anonymousPanel): the other experts' answers fed
+// back, those of every member but the expert except, and whether they
+// are shown at all. They are shown (curves, pool and reasons) only when
+// at least roomLeastAnswers of them are there, the room view's rule
+// counted from the reader's side: one other answer under its letter,
+// or a pool of two beside the reader's own curve, is that colleague's
+// answer, and an expert on a panel of two, or the second to answer a
+// question, read it off. fb may be nil (nobody had answered).
+func (fb *feedback) othersShown(except int64) ([]feedbackMember, bool) {
+	if fb == nil {
+		return nil, false
+	}
+	var others []feedbackMember
+	for _, m := range fb.members {
+		if m.expertID != except {
+			others = append(others, m)
+		}
+	}
+	return others, len(others) >= roomLeastAnswers
+}
+
+// fewOthersNote says, in the panel's place, why an expert's page shows
+// no other answers (othersShown): how many others had answered when
+// round `through` closed, and the rule.
+func fewOthersNote(others, through int) string {
+	had := "No other expert had"
+	if others == 1 {
+		had = "Only one other expert had"
+	}
+	return had + " answered this question when round " + strconv.Itoa(through) + " closed. " +
+		"The other experts' answers are shown here only once at least " + numberWord(roomLeastAnswers) +
+		" of them have answered by a round's close, so that no expert's answer is shown on its own."
 }
 
 // feedbackKey names one question's feedback in a round: the question in

@@ -679,8 +679,8 @@ func TestPossibleValuesInBothUnits(t *testing.T) {
 // panel under it title their upper plots alike, "how likely": the panel
 // said "density" under the fit's "how likely".
 func TestExpertsPanelTitlesItsPlotsAsTheirFit(t *testing.T) {
-	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante")
-	for i, a := range [][]string{{"0.03", "0.07", "0.16"}, {"0.02", "0.08", "0.2"}} {
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	for i, a := range [][]string{{"0.03", "0.07", "0.16"}, {"0.02", "0.08", "0.2"}, {"0.04", "0.1", "0.25"}} {
 		if resp, _ := g.post(g.qpath(i, g.q)+"/save", quantiles(a...)); resp.StatusCode != http.StatusSeeOther {
 			t.Fatalf("expert %d save: %d", i, resp.StatusCode)
 		}

@@ -150,7 +150,9 @@ func TestFitCacheConcurrent(t *testing.T) {
 // the others only when round 2 has closed and round 3 opened; a revoked
 // expert leaves the panel at once, though the panel is remembered.
 func TestPanelShowsTheRoundAsItClosed(t *testing.T) {
-	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei")
+	// Dario answers too, so that Ada reads two others' answers after
+	// Bruno leaves (othersShown).
+	g := newExpertRig(t, "Ada Quell", "Bruno Ferrante", "Chiara Osei", "Dario Ruiz")
 	ctx := context.Background()
 	save := func(i int, vals ...string) {
 		t.Helper()
@@ -190,6 +192,7 @@ func TestPanelShowsTheRoundAsItClosed(t *testing.T) {
 	save(0, "0.05", "0.2", "0.4")
 	save(1, "0.02", "0.08", "0.2")
 	save(2, "0.1", "0.3", "0.5")
+	save(3, "0.04", "0.12", "0.3")
 	next(2)
 	bruno1, bruno2, chiara := params(0.02, 0.08, 0.2), params(0.3, 0.55, 0.8), params(0.1, 0.3, 0.5)
 	if p := panelOf(0); !strings.Contains(p, bruno1) || !strings.Contains(p, "as they stood when round 1 closed") {

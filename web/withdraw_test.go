@@ -135,31 +135,40 @@ func TestWithdrawFromTheHistory(t *testing.T) {
 	if r, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"open"}, "reason": {"Discussion done (invented)."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("open round 2: %d %s", r.StatusCode, body)
 	}
-	fed := func() int {
-		_, body := h.get(links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+	// Read by the expert whose only answer was withdrawn: every answer
+	// fed back is another's. Fewer than two others are not shown
+	// (othersShown), and the page says how many answered.
+	var reader string
+	for _, l := range links {
+		if byName[l.Name].ID == only.ExpertID {
+			reader = l.Path
+		}
+	}
+	fed := func() (int, string) {
+		_, body := h.get(reader + "q/" + strconv.FormatInt(q.ID, 10))
 		n := 0
 		for _, l := range legendLabels(body) {
 			if strings.HasPrefix(l, "Expert ") {
 				n++
 			}
 		}
-		return n
+		return n, html.UnescapeString(body)
 	}
-	others := fed()
+	others, _ := fed()
 	var another workshop.Revision
 	for _, rv := range latest {
 		if rv.ID != only.ID && rv.ExpertID != first.ID {
 			another = rv
 		}
 	}
-	if others == 0 || another.ID == 0 {
-		t.Fatalf("round 2 feeds back %d other experts; another answer to withdraw: %d", others, another.ID)
+	if others != 2 || another.ID == 0 {
+		t.Fatalf("round 2 feeds back %d other experts, want 2; another answer to withdraw: %d", others, another.ID)
 	}
 	if res, body := h.post(withdrawPath(ws.ID, q.ID, another.ID), url.Values{"reason": {"Entered against the wrong question (invented)."}}); res.StatusCode != http.StatusSeeOther {
 		t.Fatalf("withdraw a round-1 answer in round 2: %d %s", res.StatusCode, body)
 	}
-	if n := fed(); n != others-1 {
-		t.Errorf("round 2 feeds back %d other experts after a withdrawal, want %d", n, others-1)
+	if n, body := fed(); n != 0 || !strings.Contains(body, "Only one other expert had answered this question when round 1 closed.") {
+		t.Errorf("round 2 feeds back %d other experts after a withdrawal left one, want none and the words saying one had answered", n)
 	}
 
 	// A calibration question's answers, once its true value is shown,
