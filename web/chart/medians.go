@@ -12,7 +12,9 @@ import (
 // MedianStripView is the spread of a panel's medians for the room: each
 // expert's median as a dot under their anonymous label, the box of the
 // quartiles of the medians (elicit.SpreadOfMedians) with the median of
-// the medians, and, once revealed, the true value.
+// the medians, and, once revealed, the true value. Its one caller, the
+// room view, draws it only from two medians (the room's
+// roomLeastAnswers): one answer alone is shown nowhere.
 type MedianStripView struct {
 	ID       string
 	Quantity string
@@ -207,15 +209,6 @@ func newMedianStrip(v MedianStripView) medianStripModel {
 	}
 	if len(v.Medians) < minBoxMedians {
 		m.Rows = []spreadQuartile{{"lowest", value(sp.Lowest)}, {mid, value(sp.Median)}, {"highest", value(sp.Highest)}}
-	}
-	if len(v.Medians) == 1 {
-		// One answer has no spread: "lowest", "median of the medians"
-		// and "highest" wrote its one median three times.
-		m.Desc = "The one expert's median: " + parts[0] + "."
-		if v.Truth != nil {
-			m.Desc += " The true value, now revealed, is " + value(*v.Truth) + "."
-		}
-		m.Rows = []spreadQuartile{{v.Labels[0] + "'s median, the only answer", value(sp.Median)}}
 	}
 	return m
 }
