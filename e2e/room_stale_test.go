@@ -39,6 +39,26 @@ const readRoomStale = `(() => {
 	};
 })()`
 
+// noticeOverPictures scrolls the page from top to bottom and lists, at
+// each position, the room view's pictures the notice lies over.
+const noticeOverPictures = `(() => {
+	const line = document.querySelector(".room-live-status");
+	const out = [];
+	for (let y = 0; ; y += 100) {
+		scrollTo(0, y);
+		const n = line.getBoundingClientRect();
+		document.querySelectorAll(".room-view svg.chart-svg").forEach(s => {
+			const r = s.getBoundingClientRect();
+			if (r.height > 0 && n.height > 0 && r.bottom > n.top && r.top < n.bottom && n.bottom > 0 && n.top < innerHeight) {
+				out.push("at " + scrollY + " px: " + s.getAttribute("class") + " " + Math.round(r.top) + "–" + Math.round(r.bottom) + " under the notice " + Math.round(n.top) + "–" + Math.round(n.bottom));
+			}
+		});
+		if (y >= document.documentElement.scrollHeight - innerHeight) break;
+	}
+	scrollTo(0, 0);
+	return out;
+})()`
+
 // TestRoomSaysWhenItStopsFollowing: the room view had no status line,
 // so when its stream was refused (the facilitator signed out in another
 // tab, the session's hours up) the projector went on showing the panel as
@@ -87,6 +107,12 @@ func TestRoomSaysWhenItStopsFollowing(t *testing.T) {
 	fac.viewport(phoneWidth, phoneHeight, true)
 	if s := eval[roomStale](fac, "the notice on a phone", readRoomStale); !s.Shown || !s.Onto {
 		t.Errorf("on a phone the notice is drawn %v, on the screen %v", s.Shown, s.Onto)
+	}
+	// Kept over the screen's foot as the page scrolled, its five lines
+	// covered the picture and the strip of medians: no scroll position
+	// may show the notice over a picture.
+	if covered := eval[[]string](fac, "the notice over the pictures", noticeOverPictures); len(covered) > 0 {
+		t.Errorf("on a phone the notice covers pictures as the page scrolls: %v", covered)
 	}
 	shots.take(fac, "room-stale-390")
 	fac.viewport(1366, 768, false)
