@@ -1,0 +1,71 @@
+package e2e
+
+import (
+	"context"
+	"strconv"
+	"strings"
+	"testing"
+)
+
+// roomWhere reads the room view's first line: its height against its
+// line height, whether the prior's link lies whole on the screen, and
+// whether the title is cut short.
+type roomWhere struct {
+	Lines  float64 `json:"lines"`
+	LinkIn bool    `json:"linkIn"`
+	Cut    bool    `json:"cut"`
+	Title  string  `json:"title"`
+}
+
+const readRoomWhere = `(() => {
+	const p = document.querySelector(".room-where");
+	const t = p.querySelector(".room-title");
+	const l = document.getElementById("room-prior-link");
+	const r = l ? l.getBoundingClientRect() : null;
+	return {
+		lines: p.getBoundingClientRect().height / parseFloat(getComputedStyle(p).lineHeight),
+		linkIn: !!r && r.width > 0 && r.left >= 0 && r.right <= innerWidth + 0.5 && r.bottom <= innerHeight,
+		cut: t.scrollWidth > t.clientWidth + 1,
+		title: t.textContent,
+	};
+})()`
+
+// TestRoomFirstLineStaysOneLine: a workshop title of 190 letters over a
+// question with an agreed prior took two lines of the room view's header
+// at every projector size from 1024×768 to 1920×1080, pushing the
+// picture down, and the reasons display counts the line as one. On a
+// projector the title is cut short with an ellipsis, the question's
+// place and the prior's link kept whole on the line; on a phone the
+// line wraps and the title is whole.
+func TestRoomFirstLineStaysOneLine(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := br.person("facilitator")
+	signInAnew(t, site, fac)
+	w := d.w
+	w.Title = strings.Repeat("Invented long workshop title of the cooperative's inverter panel ", 3)[:190]
+	if err := site.DB.UpdateWorkshop(context.Background(), w); err != nil {
+		t.Fatal(err)
+	}
+	// Round 1 closed: the room shows the panel. The demo's question 1
+	// has an agreed prior: the line links it.
+	fac.open(d.url + "/")
+	fac.postFromPage(d.url+"/round", "action=close")
+	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room")
+	for _, s := range [][2]int64{{1024, 768}, {1280, 720}, {1366, 768}, {1920, 1080}} {
+		fac.viewport(s[0], s[1], false)
+		got := eval[roomWhere](fac, "the first line", readRoomWhere)
+		if got.Lines > 1.2 || !got.LinkIn || !got.Cut || got.Title != w.Title {
+			t.Errorf("%d×%d: the first line takes %.2f lines, the prior's link on the screen %v, the title cut short %v (the page holds it whole %v)",
+				s[0], s[1], got.Lines, got.LinkIn, got.Cut, got.Title == w.Title)
+		}
+		fitsScreen(t, fac, int(s[0]), int(s[1]))
+		shots.take(fac, "room-long-title-"+strconv.FormatInt(s[0], 10))
+	}
+	fac.viewport(phoneWidth, phoneHeight, true)
+	if got := eval[roomWhere](fac, "the first line on a phone", readRoomWhere); got.Cut || !got.LinkIn {
+		t.Errorf("on a phone the title is cut short %v, the prior's link on the screen %v", got.Cut, got.LinkIn)
+	}
+	shots.take(fac, "room-long-title-390")
+}
