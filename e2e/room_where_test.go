@@ -69,3 +69,22 @@ func TestRoomFirstLineStaysOneLine(t *testing.T) {
 	}
 	shots.take(fac, "room-long-title-390")
 }
+
+// TestPriorDisplayBackLinkReadsFromTheRoom: the prior display's "back to
+// the picture" beside its heading was set in 0.85 of the page's base
+// type, 13.6 px on a 1920×1080 projector under a state line of 25 px,
+// where the reasons display's same link reads at 0.85 of its own 1.3vw.
+func TestPriorDisplayBackLinkReadsFromTheRoom(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signInAnew(t, site, fac)
+	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room?show=prior")
+	for _, s := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+		fac.viewport(s[0], s[1], false)
+		sizes := eval[[]float64](fac, "the link's type", `["#room-picture-link", ".room-state"].map(s => parseFloat(getComputedStyle(document.querySelector(s)).fontSize))`)
+		if sizes[0] < 0.8*sizes[1] {
+			t.Errorf("%d×%d: the link back to the picture is set in %.1f px under a state line of %.1f px", s[0], s[1], sizes[0], sizes[1])
+		}
+	}
+}
