@@ -44,6 +44,10 @@ type expertHomeView struct {
 	// back from round 2 until their true value is shown
 	// (workshop.Question.PanelHeld); which ones is not said here.
 	Held int
+	// Few counts the questions, not held, whose pages hold back the one
+	// other expert's answer given (othersShown); which ones is not said
+	// here either.
+	Few int
 }
 
 // roundNext says what a later round asks of an expert: the demo's round-2
@@ -55,6 +59,16 @@ type expertHomeView struct {
 // whose panel is held back until its true value is shown.
 func (v expertHomeView) roundNext() string {
 	said := "what the other experts said in round " + strconv.Itoa(v.Round-1) + ", without their names"
+	if v.Few > 0 {
+		// Some pages show no other answer because too few others gave
+		// one: the promise leaves them out, and their pages say why.
+		if v.Held+v.Few < len(v.Questions) {
+			return "On each question's page you can now read " + said + ", except where the page says why their answers are not shown. " +
+				"Revise your answer if it changes your mind; an answer you leave as it is stays your judgement."
+		}
+		return "The other experts' answers are not shown on " + plural(len(v.Questions), "this question's page; the page says why. ", "these questions' pages; each page says why. ") +
+			"You can revise your answers while the round is open; an answer you leave as it is stays your judgement."
+	}
 	switch {
 	case v.Held == 0:
 		return "On each question's page you can now read " + said + ". " +
@@ -803,6 +817,18 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		}
 		if q.PanelHeld() {
 			v.Held++
+		} else if ws.Open && ws.Round > 1 {
+			// roundNext promises the other experts' answers only where
+			// the question's page shows them (othersShown).
+			fb, err := s.panelThrough(r, ws, q, ws.FeedbackRound())
+			if err != nil {
+				// The question's page says its panel could not be read.
+				s.logFailure(r, "round feedback", err, "question", q.ID)
+			} else if others, ok := fb.othersShown(e.ID); !ok && len(others) > 0 {
+				// One other's answer held back; a question nobody else
+				// answered has nothing to promise.
+				v.Few++
+			}
 		}
 		for _, rv := range revs {
 			if rv.ExpertID != e.ID || rv.QuestionID != q.ID {
