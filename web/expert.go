@@ -768,6 +768,10 @@ func reasonDescribedBy(msg string) string {
 // every handler here acts for expertFrom(ctx) and no other. No expert or
 // revision id ever appears in these URLs.
 func (s *Server) expertRoutes(r chi.Router) {
+	r.Use(s.noteExpertVersion)
+	// The stream of the changes the expert's pages show (live_expert.go)
+	// takes no turn: it holds its connection, not a CPU.
+	r.Get("/events", s.expertEvents)
 	// Previews and saves go before pages when the server is busy (turns.go).
 	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
 	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
@@ -1074,6 +1078,7 @@ func (s *Server) expertSavePost(w http.ResponseWriter, r *http.Request) {
 		return
 	}
 	s.live.publishEvent(sc.workshop.ID, liveEvent{Kind: "save", Question: sc.question.ID, At: rev.At})
+	s.live.publishOwn(sc.workshop.ID, sc.expert.ID)
 	// "Saved." is said once, on the page the save leads to: a reload does
 	// not say it again (confirm_once.go). The page opens at it (#saved):
 	// opened at its top, a phone showed the question's wording, and

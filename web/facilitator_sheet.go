@@ -548,6 +548,15 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 			return
 		}
 		if err = SaveSheet(r.Context(), s.store, ws, changes.Save, sh.channel, sh.file); err == nil {
+			// Each expert whose answers the sheet saved sees them on
+			// their own pages; the others hear nothing of it.
+			told := map[int64]bool{}
+			for _, row := range changes.Save {
+				if !told[row.Expert.ID] {
+					told[row.Expert.ID] = true
+					s.live.publishOwn(ws.ID, row.Expert.ID)
+				}
+			}
 			s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(len(changes.Unchanged)))
 			http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
 			return

@@ -67,11 +67,14 @@ type liveHub struct {
 	// this hub's start (see liveEvent).
 	changes map[int64]uint64
 	start   string
+	// experts are the experts' streams and counts (live_expert.go).
+	experts expertAudience
 }
 
 func newLiveHub() *liveHub {
 	return &liveHub{subs: map[int64]map[chan liveEvent]struct{}{}, done: make(chan struct{}),
-		changes: map[int64]uint64{}, start: strconv.FormatInt(time.Now().UnixNano(), 36)}
+		changes: map[int64]uint64{}, start: strconv.FormatInt(time.Now().UnixNano(), 36),
+		experts: newExpertAudience()}
 }
 
 // version is workshop's live version: the changes published to it since
@@ -194,15 +197,50 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	}
 	ch, version, cancel, err := s.live.subscribe(ws.ID)
 	if err != nil {
-		msg := "Parley has too many live pages open; this page will try again shortly."
-		if errors.Is(err, http.ErrServerClosed) {
-			msg = "Parley is stopping; this page will try again shortly."
-		}
-		w.Header().Set("Retry-After", "10")
-		http.Error(w, msg, http.StatusServiceUnavailable)
+		streamRefused(w, err)
 		return
 	}
 	defer cancel()
+	s.serveStream(w, r, liveStream{
+		label:   fmt.Sprintf("changes of workshop %d", ws.ID),
+		changes: ch, version: version,
+		now:    func() string { return s.live.version(ws.ID) },
+		still:  func() bool { return s.stillSignedIn(r) },
+		change: func(ev liveEvent) any { return ev },
+	})
+}
+
+// streamRefused answers a stream that cannot be opened: too many open,
+// or the server stopping.
+func streamRefused(w http.ResponseWriter, err error) {
+	msg, status := "Parley has too many live pages open; this page will try again shortly.", http.StatusServiceUnavailable
+	switch {
+	case errors.Is(err, http.ErrServerClosed):
+		msg = "Parley is stopping; this page will try again shortly."
+	case errors.Is(err, errTooManyLinkStreams):
+		msg, status = "This private link has too many live pages open; this page will try again shortly.", http.StatusTooManyRequests
+	}
+	w.Header().Set("Retry-After", "10")
+	http.Error(w, msg, status)
+}
+
+// liveStream is what one event stream sends: the facilitator's, or an
+// expert's (live_expert.go).
+type liveStream struct {
+	label   string              // for the stream's opening comment
+	changes chan liveEvent      // from the hub
+	version string              // the count as the stream opens
+	now     func() string       // the count now, for a beat
+	still   func() bool         // whether the stream may go on, checked before each change and beat
+	gone    string              // the event sent when still is false, if any ("" ends the stream without a word)
+	change  func(liveEvent) any // what a change event carries
+}
+
+// serveStream sends st to the browser as server-sent events: hello as it
+// opens, a change for each change heard, a beat every Options.Heartbeat,
+// until the client leaves, the server stops, a write waits past
+// streamWriteLimit, or st.still fails.
+func (s *Server) serveStream(w http.ResponseWriter, r *http.Request, st liveStream) {
 	rc := http.NewResponseController(w)
 	// A stream outlives the server's write timeout by design; each write
 	// has streamWriteLimit instead.
@@ -214,6 +252,7 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	_ = rc.SetWriteDeadline(time.Now().Add(streamWriteLimit))
 	h := w.Header()
 	h.Set("Content-Type", "text/event-stream; charset=utf-8")
+	h.Set("Cache-Control", "no-store")
 	h.Set("X-Accel-Buffering", "no")
 	w.WriteHeader(http.StatusOK)
 	// hello says the count as the stream opens and how often beats come
@@ -222,9 +261,14 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 	hello, _ := json.Marshal(struct {
 		Version string `json:"version"`
 		Beat    int64  `json:"beat"`
-	}{version, s.opt.Heartbeat.Milliseconds()})
-	if !send("retry: 2000\n: Parley live changes of workshop %d\n\nevent: hello\ndata: %s\n\n", ws.ID, hello) {
+	}{st.version, s.opt.Heartbeat.Milliseconds()})
+	if !send("retry: 2000\n: Parley live %s\n\nevent: hello\ndata: %s\n\n", st.label, hello) {
 		return
+	}
+	ended := func() {
+		if st.gone != "" {
+			send("event: %s\ndata: {}\n\n", st.gone)
+		}
 	}
 	tick := time.NewTicker(s.opt.Heartbeat)
 	defer tick.Stop()
@@ -235,20 +279,22 @@ func (s *Server) liveEvents(w http.ResponseWriter, r *http.Request) {
 		case <-s.live.done:
 			return
 		case <-tick.C:
-			if !s.stillSignedIn(r) {
+			if !st.still() {
+				ended()
 				return
 			}
 			beat, _ := json.Marshal(struct {
 				Version string `json:"version"`
-			}{s.live.version(ws.ID)})
+			}{st.now()})
 			if !send("event: beat\ndata: %s\n\n", beat) {
 				return
 			}
-		case ev := <-ch:
-			if !s.stillSignedIn(r) {
+		case ev := <-st.changes:
+			if !st.still() {
+				ended()
 				return
 			}
-			b, _ := json.Marshal(ev)
+			b, _ := json.Marshal(st.change(ev))
 			if !send("event: change\ndata: %s\n\n", b) {
 				return
 			}
@@ -350,5 +396,6 @@ func (s *Server) publishChanges(next http.Handler) http.Handler {
 			ev.Question, _ = strconv.ParseInt(rest, 10, 64)
 		}
 		s.live.publishEvent(id, ev)
+		s.tellExperts(r, id, chi.RouteContext(r.Context()).RoutePattern())
 	})
 }

@@ -1,0 +1,256 @@
+package web
+
+import (
+	"context"
+	"errors"
+	"net/http"
+	"strconv"
+
+	"github.com/go-chi/chi/v5"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// An expert's pages follow the workshop too: GET /e/{token}/events is the
+// stream of the changes an expert's pages show, authorised by the private
+// link alone. It must tell an expert nothing about the other experts that
+// their pages do not show, so it is not the facilitator's stream: it
+// carries no kind of change and no question, only a count, and the count
+// is the expert's own: the changes every expert sees (a round closed or
+// opened, the workshop archived or brought back, a question added,
+// corrected, retired or its true value shown, and what changes the
+// feedback an expert reads from round 2), and the changes to this
+// expert's own answers and link (their saves, from any device; an answer
+// the facilitator entered or withdrew; the link ended or replaced). An
+// expert's save, or another's link revoked in round 1, moves no other
+// expert's count: a count that moved with every save told each expert how
+// busy the others were.
+
+// maxLinkStreams bounds the open streams of one private link: one per
+// browser (its tabs share one, live-worker.js), a few for an expert with
+// a phone and a laptop, or a browser without shared workers. A link
+// cannot hold more connections and goroutines than that.
+const maxLinkStreams = 4
+
+// maxExpertStreams bounds the experts' open streams on the whole server,
+// apart from the facilitator's maxStreams: a room of a few hundred
+// experts, each on a phone and a laptop.
+const maxExpertStreams = 1024
+
+// errTooManyLinkStreams is returned when a link has maxLinkStreams open.
+var errTooManyLinkStreams = errors.New("too many open event streams for one link")
+
+// expertAudience is what the hub keeps of the experts' streams.
+type expertAudience struct {
+	// subs are each workshop's expert streams, with their expert.
+	subs     map[int64]map[chan liveEvent]int64
+	n        int
+	perLink  map[int64]int    // open streams by expert
+	shared   map[int64]uint64 // changes every expert of a workshop sees
+	own      map[int64]uint64 // changes to one expert's own answers and link
+	expertWS map[int64]int64  // an expert's workshop, for own changes
+}
+
+func newExpertAudience() expertAudience {
+	return expertAudience{subs: map[int64]map[chan liveEvent]int64{}, perLink: map[int64]int{},
+		shared: map[int64]uint64{}, own: map[int64]uint64{}, expertWS: map[int64]int64{}}
+}
+
+// expertVersion is the live version of an expert's pages: the hub's
+// start mark, the workshop's shared changes and the expert's own.
+func (h *liveHub) expertVersion(ws, expert int64) string {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	return h.expertVersionLocked(ws, expert)
+}
+
+func (h *liveHub) expertVersionLocked(ws, expert int64) string {
+	return h.start + "-" + strconv.FormatUint(h.experts.shared[ws], 10) + "." + strconv.FormatUint(h.experts.own[expert], 10)
+}
+
+// subscribeExpert opens a stream of the changes expert's pages show.
+func (h *liveHub) subscribeExpert(ws, expert int64) (ch chan liveEvent, version string, cancel func(), err error) {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	a := &h.experts
+	switch {
+	case h.closed:
+		return nil, "", nil, http.ErrServerClosed
+	case a.perLink[expert] >= maxLinkStreams:
+		return nil, "", nil, errTooManyLinkStreams
+	case a.n >= maxExpertStreams:
+		return nil, "", nil, errTooManyStreams
+	}
+	ch = make(chan liveEvent, 1)
+	if a.subs[ws] == nil {
+		a.subs[ws] = map[chan liveEvent]int64{}
+	}
+	a.subs[ws][ch] = expert
+	a.n++
+	a.perLink[expert]++
+	return ch, h.expertVersionLocked(ws, expert), func() {
+		h.mu.Lock()
+		defer h.mu.Unlock()
+		if _, ok := a.subs[ws][ch]; ok {
+			delete(a.subs[ws], ch)
+			a.n--
+			if a.perLink[expert]--; a.perLink[expert] <= 0 {
+				delete(a.perLink, expert)
+			}
+		}
+	}, nil
+}
+
+// publishShared tells every expert of ws of a change their pages show.
+func (h *liveHub) publishShared(ws int64) {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	h.experts.shared[ws]++
+	for ch, expert := range h.experts.subs[ws] {
+		offer(ch, liveEvent{Version: h.expertVersionLocked(ws, expert)})
+	}
+}
+
+// publishOwn tells expert's streams of a change to their own answers or
+// link.
+func (h *liveHub) publishOwn(ws, expert int64) {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	h.experts.own[expert]++
+	for ch, e := range h.experts.subs[ws] {
+		if e == expert {
+			offer(ch, liveEvent{Version: h.expertVersionLocked(ws, expert)})
+		}
+	}
+}
+
+// offer puts ev on ch without waiting: a newer change takes the place of
+// one pending, as in publishEvent. The caller holds the hub's lock.
+func offer(ch chan liveEvent, ev liveEvent) {
+	select {
+	case ch <- ev:
+	default:
+		select {
+		case <-ch:
+		default:
+		}
+		ch <- ev
+	}
+}
+
+// expertStreams is the number of the experts' open streams.
+func (h *liveHub) expertStreams() int {
+	h.mu.Lock()
+	defer h.mu.Unlock()
+	return h.experts.n
+}
+
+// expertChange is all a change event tells an expert's page: the count.
+type expertChange struct {
+	Version string `json:"version"`
+}
+
+// expertEvents streams the changes the expert's pages show. It is
+// mounted under requireExpert: an unknown, ended or replaced link gets
+// 404. An open stream ends, saying "gone", once its link no longer
+// works (checked before each change and each beat), so a revoked link
+// hears nothing more.
+func (s *Server) expertEvents(w http.ResponseWriter, r *http.Request) {
+	e := expertFrom(r.Context())
+	ch, version, cancel, err := s.live.subscribeExpert(e.WorkshopID, e.ID)
+	if err != nil {
+		streamRefused(w, err)
+		return
+	}
+	defer cancel()
+	hash, _ := tokenHash(chi.URLParam(r, "token"))
+	s.serveStream(w, r, liveStream{
+		label:   "changes of your pages",
+		changes: ch, version: version,
+		now: func() string { return s.live.expertVersion(e.WorkshopID, e.ID) },
+		still: func() bool {
+			now, err := s.store.ExpertByToken(r.Context(), hash)
+			return err == nil && !now.Revoked && now.ID == e.ID
+		},
+		gone:   "gone",
+		change: func(ev liveEvent) any { return expertChange{Version: ev.Version} },
+	})
+}
+
+// noteExpertVersion notes, for an expert's page, the live version of its
+// expert's pages before the page reads anything (liveVersionOf).
+func (s *Server) noteExpertVersion(next http.Handler) http.Handler {
+	return http.HandlerFunc(func(w http.ResponseWriter, r *http.Request) {
+		if r.Method == http.MethodGet {
+			e := expertFrom(r.Context())
+			r = r.WithContext(context.WithValue(r.Context(), liveVersionKey{}, s.live.expertVersion(e.WorkshopID, e.ID)))
+		}
+		next.ServeHTTP(w, r)
+	})
+}
+
+// tellExperts publishes a facilitator's change under /w/{workshop} to
+// the experts whose pages show it, by the route it took (pattern). The
+// workshop is read after the change, for the round whose judgements are
+// fed back.
+func (s *Server) tellExperts(r *http.Request, ws int64, pattern string) {
+	ctx := context.WithoutCancel(r.Context())
+	id := func(name string) int64 {
+		v, _ := strconv.ParseInt(chi.URLParam(r, name), 10, 64)
+		return v
+	}
+	switch pattern {
+	case "/w/{workshop}/edit", "/w/{workshop}/questions", "/w/{workshop}/delete", "/w/{workshop}/archive",
+		"/w/{workshop}/round", "/w/{workshop}/q/{question}/edit", "/w/{workshop}/q/{question}/retire":
+		s.live.publishShared(ws)
+	case "/w/{workshop}/calibration/q/{question}":
+		// A true value entered is hidden until it is shown: a change then
+		// would tell the experts which questions are calibration questions.
+		if q, err := s.store.Question(ctx, id("question")); err == nil && q.Revealed {
+			s.live.publishShared(ws)
+		}
+	case "/w/{workshop}/q/{question}/enter/{expert}/save":
+		s.live.publishOwn(ws, id("expert"))
+	case "/w/{workshop}/experts/{expert}/revoke", "/w/{workshop}/experts/{expert}/reissue":
+		expert := id("expert")
+		s.live.publishOwn(ws, expert)
+		// The feedback leaves out a revoked expert's curve, and shows it
+		// again once a new link lifts the revocation.
+		if w, err := s.store.Workshop(ctx, ws); err == nil && w.FeedbackRound() > 0 {
+			if revs, err := s.store.ExpertRevisions(ctx, expert); err == nil && fedBack(revs, w) {
+				s.live.publishShared(ws)
+			}
+		}
+	case "/w/{workshop}/q/{question}/reasons/{revision}", "/w/{workshop}/q/{question}/revisions/{revision}/withdraw":
+		w, err := s.store.Workshop(ctx, ws)
+		if err != nil {
+			return
+		}
+		revs, err := s.store.Revisions(ctx, ws)
+		if err != nil {
+			return
+		}
+		for _, rv := range revs {
+			if rv.ID != id("revision") {
+				continue
+			}
+			if pattern != "/w/{workshop}/q/{question}/reasons/{revision}" {
+				s.live.publishOwn(ws, rv.ExpertID) // the expert's own history marks it
+			}
+			if fedBack([]workshop.Revision{rv}, w) {
+				s.live.publishShared(ws)
+			}
+		}
+	}
+}
+
+// fedBack says whether any of revs is of a round the workshop's feedback
+// shows.
+func fedBack(revs []workshop.Revision, w workshop.Workshop) bool {
+	for _, rv := range revs {
+		if rv.Round <= w.FeedbackRound() {
+			return true
+		}
+	}
+	return false
+}

@@ -1,0 +1,275 @@
+package web
+
+import (
+	"bufio"
+	"context"
+	"encoding/json"
+	"net/http"
+	"net/http/httptest"
+	"net/url"
+	"strconv"
+	"strings"
+	"sync"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// rawStream is an expert's event stream as the bytes arrive, every line
+// kept, for checking what it carries.
+type rawStream struct {
+	events chan rawEvent
+	mu     sync.Mutex
+	all    strings.Builder
+	ended  chan struct{}
+}
+
+// text is every line the stream has sent so far.
+func (st *rawStream) text() string {
+	st.mu.Lock()
+	defer st.mu.Unlock()
+	return st.all.String()
+}
+
+type rawEvent struct {
+	Kind, Data string
+}
+
+// openRawStream opens path with a client that carries no cookie: an
+// expert's stream is authorised by the link alone.
+func openRawStream(t *testing.T, base, path string) (*http.Response, *rawStream) {
+	t.Helper()
+	ctx, cancel := context.WithCancel(context.Background())
+	t.Cleanup(cancel)
+	req, _ := http.NewRequestWithContext(ctx, http.MethodGet, base+path, nil)
+	req.Header.Set("Accept", "text/event-stream")
+	res, err := http.DefaultClient.Do(req)
+	if err != nil {
+		t.Fatal(err)
+	}
+	t.Cleanup(func() { res.Body.Close() })
+	if res.StatusCode != http.StatusOK {
+		return res, nil
+	}
+	st := &rawStream{events: make(chan rawEvent, 256), ended: make(chan struct{})}
+	lines := make(chan string, 1024)
+	go func() {
+		defer close(lines)
+		sc := bufio.NewScanner(res.Body)
+		for sc.Scan() {
+			lines <- sc.Text()
+		}
+	}()
+	go func() {
+		defer close(st.ended)
+		kind := ""
+		for line := range lines {
+			st.mu.Lock()
+			st.all.WriteString(line + "\n")
+			st.mu.Unlock()
+			switch {
+			case strings.HasPrefix(line, "event: "):
+				kind = strings.TrimPrefix(line, "event: ")
+			case strings.HasPrefix(line, "data: "):
+				st.events <- rawEvent{kind, strings.TrimPrefix(line, "data: ")}
+			}
+		}
+	}()
+	return res, st
+}
+
+// next is the stream's next event other than a beat whose version is
+// version; it fails after 5 s.
+func (st *rawStream) next(t *testing.T, what string) rawEvent {
+	t.Helper()
+	select {
+	case ev := <-st.events:
+		return ev
+	case <-time.After(5 * time.Second):
+		t.Fatalf("%s: nothing on the stream within 5 s", what)
+	}
+	return rawEvent{}
+}
+
+func versionIn(t *testing.T, ev rawEvent) string {
+	t.Helper()
+	var v struct{ Version string }
+	if err := json.Unmarshal([]byte(ev.Data), &v); err != nil || v.Version == "" {
+		t.Fatalf("%s event without a version: %q", ev.Kind, ev.Data)
+	}
+	return v.Version
+}
+
+// expertLiveHarness is a workshop of two experts and a question, on a
+// server whose streams beat every 100 ms.
+func expertLiveHarness(t *testing.T) (h *harness, ws workshop.Workshop, q workshop.Question, tokA, tokB string) {
+	t.Helper()
+	h = newHarness(t)
+	srv, err := New(h.db, Options{Heartbeat: 100 * time.Millisecond})
+	if err != nil {
+		t.Fatal(err)
+	}
+	ts := httptest.NewServer(srv.Handler())
+	t.Cleanup(ts.Close)
+	h.ts, h.srv = ts, srv
+	h.signIn()
+	ws = h.newWorkshop("Invented: pump seal failures")
+	q = h.addQuantileQuestion(t, ws.ID, "What share of seals fail in the first year? (invented)", "share failing")
+	_, tokA = h.addExpert(ws, "Ada Quist")
+	_, tokB = h.addExpert(ws, "Bruno Marsh")
+	return h, ws, q, tokA, tokB
+}
+
+// An expert's stream tells them of what their pages show, and of nothing
+// about the other experts: another expert's saves, an expert added, an
+// answer entered or a link ended for another expert in round 1, a reason
+// withheld that no page of theirs shows, a hidden true value entered move
+// neither its events nor the count its beats carry; a round closed, and
+// their own save, do. It carries no names, no questions, no kinds.
+func TestExpertStreamCarriesNothingAboutTheOthers(t *testing.T) {
+	h, ws, q, tokA, tokB := expertLiveHarness(t)
+	res, st := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	if st == nil {
+		t.Fatalf("the expert's stream answered %d", res.StatusCode)
+	}
+	hello := st.next(t, "hello")
+	if hello.Kind != "hello" {
+		t.Fatalf("the stream opened with %q", hello.Kind)
+	}
+	opened := versionIn(t, hello)
+	qpath := "/e/" + tokB + "/q/" + strconv.FormatInt(q.ID, 10)
+	others := newHarnessClient(h)
+	for _, vals := range [][]string{{"0.01", "0.05", "0.2"}, {"0.02", "0.06", "0.25"}} {
+		f := quantiles(vals...)
+		f.Set("reason", "The invented plant's records, as Bruno Marsh read them.")
+		if res, body := others.post(qpath+"/save", f); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("the other expert's save: %d %s", res.StatusCode, body)
+		}
+	}
+	c, tokC := h.addExpert(ws, "Celia Hidden")
+	if res, _ := others.post("/e/"+tokC+"/q/"+strconv.FormatInt(q.ID, 10)+"/save", quantiles("0.03", "0.07", "0.3")); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("the third expert's save: %d", res.StatusCode)
+	}
+	revs, err := h.db.Revisions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/q/"+strconv.FormatInt(q.ID, 10)+"/reasons/"+strconv.FormatInt(revs[0].ID, 10),
+		url.Values{"action": {"withhold"}, "withhold_reason": {"Names a colleague (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("withhold: %d %.300s", res.StatusCode, body)
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/experts/"+strconv.FormatInt(c.ID, 10)+"/revoke",
+		url.Values{"confirm": {"yes"}, "reason": {"Left the panel (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d %s", res.StatusCode, body)
+	}
+	// Two beats after all that, the count is as it opened, and nothing
+	// but beats came.
+	for beats := 0; beats < 2; {
+		ev := st.next(t, "beats after the other experts' changes")
+		if ev.Kind != "beat" {
+			t.Fatalf("the other experts' saves, an expert added and revoked and a reason withheld in round 1 sent expert A %q %s", ev.Kind, ev.Data)
+		}
+		if v := versionIn(t, ev); v != opened {
+			t.Fatalf("the count moved from %s to %s with the other experts' changes", opened, v)
+		}
+		beats++
+	}
+
+	// A round closed reaches the expert.
+	if res, body := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}, "round": {"1"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("close the round: %d %s", res.StatusCode, body)
+	}
+	closed := ""
+	for closed == "" {
+		if ev := st.next(t, "the round closed"); ev.Kind == "change" {
+			closed = versionIn(t, ev)
+		}
+	}
+	if closed == opened {
+		t.Fatalf("the round's close left the count at %s", closed)
+	}
+	// Round 2 opens: in it the feedback shows round 1, and its reasons.
+	h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"open"}, "round": {"2"}, "reason": {"Round 2 (invented)."}})
+	for {
+		if ev := st.next(t, "round 2 opened"); ev.Kind == "change" {
+			break
+		}
+	}
+	// The expert's own save reaches their other devices.
+	mine := newHarnessClient(h)
+	if res, body := mine.post("/e/"+tokA+"/q/"+strconv.FormatInt(q.ID, 10)+"/save", quantiles("0.02", "0.04", "0.1")); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("expert A's save: %d %s", res.StatusCode, body)
+	}
+	for {
+		if ev := st.next(t, "their own save"); ev.Kind == "change" {
+			break
+		}
+	}
+	all := st.text()
+	for _, secret := range []string{"Bruno", "Marsh", "Celia", "Hidden", "Ada", "question", "kind", "save", strconv.FormatInt(q.ID, 10) + ","} {
+		if strings.Contains(all, secret) {
+			t.Errorf("the expert's stream carries %q:\n%s", secret, all)
+		}
+	}
+}
+
+// A link ended while its stream is open: the stream says "gone" and
+// ends; opened again, and on the expert's pages, the link is refused.
+func TestRevokedLinksStreamEndsAndIsRefused(t *testing.T) {
+	h, ws, _, tokA, _ := expertLiveHarness(t)
+	_, st := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	if st == nil {
+		t.Fatal("the stream was refused before the link was ended")
+	}
+	st.next(t, "hello")
+	es, err := h.db.Experts(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/experts/"+strconv.FormatInt(es[0].ID, 10)+"/revoke",
+		url.Values{"confirm": {"yes"}, "reason": {"Left the panel (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revoke: %d %s", res.StatusCode, body)
+	}
+	for {
+		ev := st.next(t, "the link ended")
+		if ev.Kind == "gone" {
+			break
+		}
+		if ev.Kind == "change" {
+			t.Fatalf("the ended link's stream was told of a change: %s", ev.Data)
+		}
+	}
+	select {
+	case <-st.ended:
+	case <-time.After(5 * time.Second):
+		t.Fatal("the ended link's stream stayed open")
+	}
+	if res, _ := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events"); res.StatusCode != http.StatusNotFound {
+		t.Fatalf("the ended link's stream opened again: %d", res.StatusCode)
+	}
+	if n := h.srv.live.expertStreams(); n != 0 {
+		t.Errorf("%d expert streams still open", n)
+	}
+}
+
+// One link holds at most maxLinkStreams streams: the next is refused with
+// 429 and Retry-After, and another expert's link is not held back by it.
+func TestOneLinkHoldsABoundedNumberOfStreams(t *testing.T) {
+	h, _, _, tokA, tokB := expertLiveHarness(t)
+	for i := 0; i < maxLinkStreams; i++ {
+		if res, st := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events"); st == nil {
+			t.Fatalf("stream %d of one link refused: %d", i+1, res.StatusCode)
+		}
+	}
+	res, _ := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	if res.StatusCode != http.StatusTooManyRequests || res.Header.Get("Retry-After") == "" {
+		t.Fatalf("stream %d of one link: %d (Retry-After %q), want 429 with Retry-After", maxLinkStreams+1, res.StatusCode, res.Header.Get("Retry-After"))
+	}
+	if res, st := openRawStream(t, h.ts.URL, "/e/"+tokB+"/events"); st == nil {
+		t.Fatalf("another expert's stream refused beside a link at its bound: %d", res.StatusCode)
+	}
+	if res, _ := openRawStream(t, h.ts.URL, "/e/not-a-link-at-all/events"); res.StatusCode != http.StatusNotFound {
+		t.Fatalf("a stream without a working link: %d", res.StatusCode)
+	}
+}
