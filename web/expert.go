@@ -194,6 +194,11 @@ type expertQuestionView struct {
 	// Tried says the form holds values sent to Show the fit without the
 	// script, not the expert's saved answer.
 	Tried bool
+	// Live is set on the expert's own page, which follows the workshop
+	// (live_expert.go); Drawn is the state its form was drawn in, when the
+	// live script fetches the page again.
+	Live  bool
+	Drawn *drawnForm
 }
 
 // finalWithoutAnswer says the question's answers are final and the expert
@@ -587,9 +592,11 @@ func (v expertQuestionView) asksForSave() bool {
 
 // closedWithAnswer says the expert's own page shows, in a closed round,
 // the answer they saved: not the values of a save just refused, nor
-// those tried without the script.
+// those tried without the script, nor a form drawn while the round was
+// open, which may hold a draft.
 func (v expertQuestionView) closedWithAnswer() bool {
-	return v.OnBehalf == nil && v.saving() == savingClosed && len(v.History) > 0 && v.Closed == "" && !v.Tried
+	return v.OnBehalf == nil && v.saving() == savingClosed && len(v.History) > 0 && v.Closed == "" && !v.Tried &&
+		(v.Drawn == nil || v.Drawn.Saving == savingClosed)
 }
 
 // closedRoundStatus says, on the expert's page of a question they have
@@ -920,7 +927,11 @@ func (s *Server) expertQuestionPage(w http.ResponseWriter, r *http.Request) {
 	}
 	v := s.questionView(r, sc, typed, "")
 	v.Preview = preview
-	v.Saved = s.takeConfirmation(w, r, expertQuestionPath(r, sc.question.ID), doneSaved) == doneSaved
+	// The live script's fetch (?drawn=) takes no confirmation: "Saved."
+	// is the page's that the save led to.
+	if v.Drawn = parseDrawn(r.URL.Query().Get("drawn")); v.Drawn == nil {
+		v.Saved = s.takeConfirmation(w, r, expertQuestionPath(r, sc.question.ID), doneSaved) == doneSaved
+	}
 	if v.Saved {
 		if err := s.nextUnanswered(r, sc, &v); err != nil {
 			s.fail(w, r, err)
@@ -1093,7 +1104,7 @@ func (s *Server) renderQuestion(w http.ResponseWriter, r *http.Request, status i
 	m := pageMeta{
 		Title:    "Question " + strconv.Itoa(sc.question.Position) + " · " + sc.workshop.Title,
 		Invented: sc.workshop.Invented, Caution: true, CautionCompact: true,
-		Scripts: []string{"/static/preview.js", "/static/chips.js"},
+		Scripts: []string{"/static/preview.js", "/static/chips.js", "/static/live.js"},
 	}
 	s.renderPage(w, r, status, m, expertQuestion(v))
 }
@@ -1113,6 +1124,7 @@ func (s *Server) questionView(r *http.Request, sc expertScope, typed map[string]
 			Format: q.Format,
 		},
 		Form: newAnswerForm(q, typed, speaker{}),
+		Live: true,
 	}
 	v.Form.Reason = reason
 	if q.ValuesInPercent() {

@@ -5,6 +5,7 @@ import (
 	"errors"
 	"net/http"
 	"strconv"
+	"strings"
 
 	"github.com/go-chi/chi/v5"
 
@@ -254,3 +255,140 @@ func fedBack(revs []workshop.Revision, w workshop.Workshop) bool {
 	}
 	return false
 }
+
+// drawnForm is the state an expert's answer form was drawn in: the round
+// and whether it saved. The expert's question page follows the workshop
+// without touching the form, which may hold a draft, so its live script
+// fetches the page with the form's state (?drawn=, data-live-page), and
+// the page says what changed since (liveNotice) and what the save button
+// now does.
+type drawnForm struct {
+	Round  int
+	Saving saving
+}
+
+var savingNames = map[saving]string{savingOpen: "open", savingClosed: "closed", savingFinished: "finished", savingFinal: "final"}
+
+func (d drawnForm) String() string { return strconv.Itoa(d.Round) + "-" + savingNames[d.Saving] }
+
+// parseDrawn reads a drawnForm as String writes it. It is the live
+// script's own word, not typed by anyone: anything else is no state, and
+// the page says nothing of changes.
+func parseDrawn(s string) *drawnForm {
+	round, name, ok := strings.Cut(s, "-")
+	n, err := strconv.Atoi(round)
+	if !ok || err != nil || n < 1 || n > workshop.MaxRounds {
+		return nil
+	}
+	for sv, nm := range savingNames {
+		if nm == name {
+			return &drawnForm{Round: n, Saving: sv}
+		}
+	}
+	return nil
+}
+
+// drawn is the state the page's form was drawn in: as the live script
+// says, else as it is now.
+func (v expertQuestionView) drawn() drawnForm {
+	if v.Drawn != nil {
+		return *v.Drawn
+	}
+	return drawnForm{Round: v.Round, Saving: v.saving()}
+}
+
+// livePage is the address the live script fetches the page at.
+func (v expertQuestionView) livePage() string {
+	return v.Action + "?drawn=" + v.drawn().String()
+}
+
+// formFinal says the form was drawn final: its values read-only, and no
+// button but the one saying so.
+func (v expertQuestionView) formFinal() bool { return v.drawn().Saving == savingFinal }
+
+// offersFeedback says the page can now show the other experts' answers
+// from the round fed back, which it did not when its form was drawn.
+func (v expertQuestionView) offersFeedback() bool {
+	return v.Drawn != nil && v.Round > v.Drawn.Round && (v.Panel != nil || v.Spread != nil)
+}
+
+// feedbackKey names the feedback the page shows, for the live script: a
+// part whose key changes is offered, not swapped in under the reader.
+func (v expertQuestionView) feedbackKey() string {
+	if v.Panel == nil && v.Spread == nil && !v.PanelHeld && !v.PanelMissing {
+		return "none"
+	}
+	return "round-" + strconv.Itoa(v.FeedbackRound)
+}
+
+// answerStands says what stands of the expert's saved answers once
+// nothing more can be saved in the round.
+func (v expertQuestionView) answerStands() string {
+	if len(v.History) == 0 {
+		return "You had saved no answer to this question."
+	}
+	if h := v.History[0]; h.Round == v.Round {
+		return "Your answer saved on " + h.At + " stands."
+	} else {
+		return "Your answer from round " + strconv.Itoa(h.Round) + " stands."
+	}
+}
+
+// liveNotice says, on a page whose form was drawn in another state, what
+// the facilitator changed since, what stands and what becomes of a
+// draft in the form, which the page keeps as it was typed. "" when
+// nothing changed for the form.
+func (v expertQuestionView) liveNotice() string {
+	if v.Drawn == nil {
+		return ""
+	}
+	d, now := *v.Drawn, v.saving()
+	if d.Round == v.Round && d.Saving == now {
+		return ""
+	}
+	// The notice stands under the form, above the save button.
+	const kept = " Anything you typed in the form and had not saved stays there, but it cannot be saved"
+	round := strconv.Itoa(v.Round)
+	switch now {
+	case savingFinal:
+		if d.Saving == savingFinal {
+			return ""
+		}
+		return "The facilitator has shown this question's true value, so answers to it are final. " + v.answerStands() + kept + "."
+	case savingFinished:
+		return "The facilitator has closed this workshop, so nothing more can be saved. " + v.answerStands() + kept + "."
+	case savingClosed:
+		if d.Saving == savingFinished {
+			return "The facilitator has brought this workshop back. Round " + round + " is closed: nothing can be saved until the next round opens."
+		}
+		return "The facilitator has closed round " + round + ". " + v.answerStands() + kept +
+			" now; note it down if you want it when the next round opens."
+	}
+	if v.Round > d.Round {
+		said := ""
+		switch {
+		case v.offersFeedback():
+			said = " What the other experts said in round " + strconv.Itoa(v.FeedbackRound) + " can now be shown on this page, without their names."
+		case v.PanelHeld:
+			said = " The other experts' answers to this question stay hidden until the facilitator shows its true value."
+		}
+		stands := " You have not saved an answer to this question yet;"
+		if len(v.History) > 0 {
+			stands = " Your answer from round " + strconv.Itoa(v.History[0].Round) + " stands unless you save a new one;"
+		}
+		return "The facilitator has opened round " + round + "." + said + stands +
+			" anything you typed in the form is still there, and you can save it in round " + round + "."
+	}
+	if d.Saving == savingFinished {
+		return "The facilitator has brought this workshop back and round " + round + " is open: you can save your answer again."
+	}
+	return "The facilitator has reopened round " + round + ": you can save your answer again."
+}
+
+// expertStopped is what an expert's page says while it does not follow
+// the workshop ({since} is the time it lost touch).
+const expertStopped = "This page has lost touch with the workshop since {since}, so it may be out of date. It tries again by itself; anything you type stays here."
+
+// expertLinkGone is what an expert's page says once its link no longer
+// works.
+const expertLinkGone = "This link no longer works: the facilitator has ended it or given you a new one. Nothing more can be saved from this page; anything you typed stays here. Please ask the facilitator for your current link."

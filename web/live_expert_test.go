@@ -7,6 +7,7 @@ import (
 	"net/http"
 	"net/http/httptest"
 	"net/url"
+	"regexp"
 	"strconv"
 	"strings"
 	"sync"
@@ -272,4 +273,90 @@ func TestOneLinkHoldsABoundedNumberOfStreams(t *testing.T) {
 	if res, _ := openRawStream(t, h.ts.URL, "/e/not-a-link-at-all/events"); res.StatusCode != http.StatusNotFound {
 		t.Fatalf("a stream without a working link: %d", res.StatusCode)
 	}
+}
+
+// The expert's question page, fetched by its live script with the state
+// its form was drawn in (?drawn=), says what the facilitator changed
+// since, and its save button says why it does not save; the form is the
+// page's own business. Round 2's feedback is marked as the round's, for
+// the script to offer rather than put in under the reader. The page
+// carries the count its stream opens at.
+func TestExpertQuestionPageSaysWhatChangedSinceItsForm(t *testing.T) {
+	h, ws, q, tokA, tokB := expertLiveHarness(t)
+	ex := newHarnessClient(h)
+	page := "/e/" + tokA + "/q/" + strconv.FormatInt(q.ID, 10)
+	for _, tok := range []string{tokA, tokB} {
+		if res, body := ex.post("/e/"+tok+"/q/"+strconv.FormatInt(q.ID, 10)+"/save", quantiles("0.02", "0.05", "0.15")); res.StatusCode != http.StatusSeeOther {
+			t.Fatalf("save: %d %.300s", res.StatusCode, body)
+		}
+	}
+	_, st := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	if st == nil {
+		t.Fatal("the stream was refused")
+	}
+	opened := versionIn(t, st.next(t, "hello"))
+	res, body := ex.get(page)
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("the page: %d", res.StatusCode)
+	}
+	for _, want := range []string{`data-live-version="` + opened + `"`, `data-live-src="/e/` + tokA + `/events"`, `data-live-page="` + page + `?drawn=1-open"`} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the page drawn in round 1 lacks %s", want)
+		}
+	}
+	if strings.Contains(body, "The facilitator has") {
+		t.Errorf("the page as drawn says something changed")
+	}
+
+	h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}, "round": {"1"}})
+	_, body = ex.get(page + "?drawn=1-open")
+	notice := textOf(t, body, "live-notice")
+	for _, want := range []string{"The facilitator has closed round 1.", "Your answer saved on ", " stands.",
+		"Anything you typed in the form and had not saved stays there, but it cannot be saved now"} {
+		if !strings.Contains(notice, want) {
+			t.Errorf("the round closed: the notice %q lacks %q", notice, want)
+		}
+	}
+	if got := textOf(t, body, "save-live"); got != "Saving is closed for this round" || !strings.Contains(body, `<button type="submit" class="button" disabled>Saving is closed for this round`) {
+		t.Errorf("the round closed: the save button reads %q", got)
+	}
+	// A form drawn in the closed round hears nothing new of it.
+	if _, body := ex.get(page + "?drawn=1-closed"); textOf(t, body, "live-notice") != "" {
+		t.Errorf("a form drawn closed is told %q", textOf(t, body, "live-notice"))
+	}
+
+	h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"open"}, "round": {"2"}, "reason": {"Round 2 (invented)."}})
+	_, body = ex.get(page + "?drawn=1-open")
+	notice = textOf(t, body, "live-notice")
+	for _, want := range []string{"The facilitator has opened round 2.", "What the other experts said in round 1 can now be shown on this page, without their names.",
+		"Your answer from round 1 stands unless you save a new one", "Show what the other experts said"} {
+		if !strings.Contains(notice, want) {
+			t.Errorf("round 2 opened: the notice %q lacks %q", notice, want)
+		}
+	}
+	if !strings.Contains(body, `id="feedback-live" data-live data-live-offer="round-1"`) {
+		t.Errorf("round 2's feedback is not marked as round 1's")
+	}
+	if got := textOf(t, body, "save-live"); got != "Save this answer" {
+		t.Errorf("round 2 opened: the save button reads %q", got)
+	}
+	// A state the script never writes says nothing.
+	for _, odd := range []string{"1-ajar", "0-open", "x", "101-open"} {
+		res, body := ex.get(page + "?drawn=" + url.QueryEscape(odd))
+		if res.StatusCode != http.StatusOK || textOf(t, body, "live-notice") != "" {
+			t.Errorf("?drawn=%s: %d, notice %q", odd, res.StatusCode, textOf(t, body, "live-notice"))
+		}
+	}
+}
+
+// textOf is the text of the element with the given id in body (block),
+// its tags removed and its spaces folded.
+func textOf(t *testing.T, body, id string) string {
+	t.Helper()
+	b := block(body, id)
+	if b == "" {
+		t.Fatalf("no #%s on the page", id)
+	}
+	b = b[strings.Index(b, ">")+1:]
+	return strings.Join(strings.Fields(regexp.MustCompile(`<[^>]*>`).ReplaceAllString(b, " ")), " ")
 }

@@ -23,6 +23,9 @@ var retry = null;
 // back.
 var silentAfter = 45000;
 var quiet = null;
+// ended is set once an expert's stream says its link no longer works
+// ("gone"): the tabs are told, and the stream is not asked for again.
+var ended = false;
 
 function send(msg) {
   current = msg === "change" ? current : msg;
@@ -45,6 +48,10 @@ function tell(port) {
 }
 
 function start() {
+  if (ended) {
+    send("gone");
+    return;
+  }
   if (retry) { // one stream asked for at a time, a page's arrival or the timer
     clearTimeout(retry);
     retry = null;
@@ -83,6 +90,12 @@ function start() {
     alive();
     version = versionIn(e.data) || version;
     send("change");
+  });
+  es.addEventListener("gone", function () {
+    ended = true;
+    if (quiet) { clearInterval(quiet); quiet = null; }
+    es.close();
+    send("gone");
   });
   es.addEventListener("hello", function (e) {
     alive();
@@ -125,7 +138,9 @@ function start() {
     if (!retry) {
       retry = setTimeout(function () {
         retry = null;
-        if (stream.readyState === EventSource.CLOSED) {
+        // No tab left listening (each said "bye", as an expert's page
+        // whose link no longer works does): nobody to ask for.
+        if (stream.readyState === EventSource.CLOSED && ports.length) {
           start();
         }
       }, retryAfter);

@@ -1,5 +1,6 @@
-// Live facilitator pages. Progressive enhancement: without this script
-// the pages are complete and simply do not move until reloaded.
+// Live pages: the facilitator's, and an expert's own (their home and a
+// question's page). Progressive enhancement: without this script the
+// pages are complete and simply do not move until reloaded.
 //
 // An element with data-live-src names the workshop's event stream
 // (text/event-stream, same origin). On each change the page is fetched
@@ -20,6 +21,10 @@
   // fetching that left the page still while it said it followed changes.
   var page = src.getAttribute("data-live-page") || (window.location.pathname + window.location.search);
   var seen = src.getAttribute("data-live-version") || "";
+  // An expert's page says, once its link no longer works, why, in its
+  // own words (data-live-gone), and stops following (see goneNow).
+  var goneWords = src.getAttribute("data-live-gone");
+  var gone = false;
   var timer = null;
   var busy = false;
   var again = false;
@@ -164,6 +169,7 @@
 
   function refresh() {
     timer = null;
+    if (gone) { return; }
     if (busy) {
       again = true;
       return;
@@ -174,10 +180,17 @@
     var delay = 0;
     fetch(page, { credentials: "same-origin", headers: { "Accept": "text/html" }, signal: stop ? stop.signal : undefined })
       .then(function (resp) {
+        if (goneWords && (resp.status === 404 || resp.status === 410)) {
+          return resp.text().then(function (html) {
+            goneNow(resp.status, html);
+            return null;
+          });
+        }
         if (!resp.ok) { throw new Error("status " + resp.status); }
         return resp.text();
       })
       .then(function (html) {
+        if (html === null) { return; }
         var doc = new DOMParser().parseFromString(html, "text/html");
         var marked = doc.querySelector("[data-live-src]");
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
@@ -185,7 +198,9 @@
         held = [];
         Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
           var fresh = el.id && doc.getElementById(el.id);
-          if (fresh && atWork(el)) {
+          if (fresh && offers(el, fresh)) {
+            offered[el.id] = fresh;
+          } else if (fresh && atWork(el)) {
             held.push(el.id);
           } else if (fresh) {
             replace(el, document.importNode(fresh, true));
@@ -214,6 +229,77 @@
       });
   }
 
+  // A part marked data-live-offer is not put in under the reader once it
+  // would show something new (its key differs: an expert's page of round 1
+  // reached by round 2's feedback, drawn where the expert may be reading
+  // or typing): the fresh part is kept, and the page offers it, a button
+  // marked data-live-show naming it. Changes within what it already
+  // shows (a reason withheld) are swapped in as any part is.
+  var offered = {};
+  function offers(el, fresh) {
+    var key = el.getAttribute("data-live-offer");
+    var next = fresh.getAttribute("data-live-offer");
+    return key !== null && next !== key && next !== "none";
+  }
+  document.addEventListener("click", function (e) {
+    var button = e.target.closest && e.target.closest("[data-live-show]");
+    if (!button) { return; }
+    var id = button.getAttribute("data-live-show");
+    var el = document.getElementById(id);
+    if (el && offered[id]) {
+      var fresh = document.importNode(offered[id], true);
+      delete offered[id];
+      el.replaceWith(fresh);
+      el = fresh;
+      document.dispatchEvent(new CustomEvent("parley:live"));
+    }
+    if (!el) { return; }
+    el.scrollIntoView({ block: "start" });
+    var heading = el.querySelector("h2");
+    if (heading) {
+      heading.setAttribute("tabindex", "-1");
+      heading.focus({ preventScroll: true });
+    }
+  });
+
+  // goneNow says, on an expert's page, that it can no longer save: the
+  // link was ended or replaced (404), or the question withdrawn (410, in
+  // the words of the page the server answered). Every place marked
+  // data-live-gone-slot says so, the save button is disabled and says
+  // why, and the page stops following: nothing typed is touched.
+  function goneNow(status, html) {
+    gone = true;
+    var words = goneWords;
+    var button = src.getAttribute("data-live-gone-button");
+    if (status === 410) {
+      var doc = new DOMParser().parseFromString(html, "text/html");
+      var parts = [];
+      Array.prototype.forEach.call(doc.querySelectorAll("main h1, main .message p"), function (el) {
+        var t = el.textContent.trim();
+        if (t) { parts.push(t.replace(/[.:]?$/, ".")); }
+      });
+      if (parts.length) { words = parts.join(" ") + " Anything you typed stays here."; }
+      button = src.getAttribute("data-live-withdrawn-button") || button;
+    }
+    Array.prototype.forEach.call(document.querySelectorAll("[data-live-gone-slot]"), function (slot) {
+      var p = document.createElement("p");
+      p.className = "banner banner-gone";
+      p.setAttribute("role", "alert");
+      p.textContent = words;
+      slot.replaceChildren(p);
+    });
+    Array.prototype.forEach.call(document.querySelectorAll("[data-live-save] button"), function (b) {
+      b.disabled = true;
+      b.removeAttribute("formaction");
+      if (button) { b.textContent = button; }
+    });
+    var note = document.getElementById("live-stopped");
+    if (note) { note.remove(); }
+    document.documentElement.setAttribute("data-live", "gone");
+    if (worker) { worker.port.postMessage("bye"); }
+    if (own) { own.close(); }
+  }
+
   // schedule fetches the page in a while: 250 ms, to gather changes that
   // arrive close together, or delay ms. A change heard while a failed
   // fetch waits to be tried again cuts the wait short: the server is
@@ -222,6 +308,7 @@
   // failed meanwhile, the wait doubling), while it said it was connected.
   var due = 0;
   function schedule(delay) {
+    if (gone) { return; }
     var d = delay || 250;
     if (timer) {
       if (delay || due <= Date.now() + d) {
@@ -255,6 +342,10 @@
   // clock): the notice said the time the silence was noticed, some 45 s
   // after the page last heard of the workshop.
   function state(s, at) {
+    if (gone) { return; }
+    // A stream refused may be a link that no longer works: the page's
+    // own fetch tells (goneNow).
+    if (goneWords && s === "stopped" && current !== "stopped") { schedule(); }
     current = s;
     document.documentElement.setAttribute("data-live", s);
     if (s === "connected") {
@@ -332,8 +423,11 @@
   // A shared worker (live-worker.js) holds the workshop's one stream and
   // passes its news to every tab; where there is none, the page holds
   // its own stream.
+  var own = null;
   function direct(again) {
+    if (gone) { return; }
     var stream = new EventSource(url);
+    own = stream;
     var dropped = !!again;
     // The silence is measured on the wall clock, looked at every few
     // seconds: a laptop's sleep stops the clock of the page's timers, so
@@ -341,6 +435,10 @@
     // the page saying all the while that it followed the workshop.
     var heardAt = Date.now();
     var quiet = window.setInterval(function () {
+      if (gone) {
+        window.clearInterval(quiet);
+        return;
+      }
       if (Date.now() - heardAt < silentAfter) { return; }
       window.clearInterval(quiet);
       quiet = null;
@@ -354,6 +452,12 @@
     }
     alive();
     stream.addEventListener("change", function () { alive(); schedule(); });
+    // The link no longer works: the page's fetch says so (goneNow).
+    stream.addEventListener("gone", function () {
+      if (quiet) { window.clearInterval(quiet); quiet = null; }
+      stream.close();
+      schedule();
+    });
     stream.addEventListener("hello", function (e) {
       beatsOf(e.data);
       alive();
@@ -384,11 +488,11 @@
     });
   }
 
+  var worker = null;
   if (!window.SharedWorker) {
     direct();
     return;
   }
-  var worker;
   try {
     worker = new SharedWorker("/static/live-worker.js", { name: url });
   } catch (e) {
@@ -406,6 +510,7 @@
     }
     switch (m.data) {
       case "change":
+      case "gone":
         schedule();
         break;
       case "connected":

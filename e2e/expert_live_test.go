@@ -1,0 +1,123 @@
+package e2e
+
+import (
+	"fmt"
+	"strconv"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+)
+
+// An expert typing a draft learned that the facilitator had closed their
+// round only when Save was refused, and saw round 2's feedback only after
+// a reload. The question's page follows its round now, without touching
+// the form: the round closed, the page says so above the save button,
+// which says why it does not save, and the draft stays in its boxes;
+// round 2 opened, the page says so and offers the other experts' answers,
+// shown on the expert's word, the draft still there.
+func TestExpertPageFollowsItsRound(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+
+	ex := br.person("expert")
+	ex.viewport(1366, 900, false)
+	q := d.qs[0]
+	ex.open(site.URL + d.links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+
+	// A draft: every value box and the reasoning typed, nothing saved.
+	names := eval[[]string](ex, "the value boxes", `Array.from(document.querySelectorAll("form.answer-form input[type=text]")).map(i => i.name)`)
+	if len(names) == 0 {
+		t.Fatal("the question's page has no value boxes")
+	}
+	draft := map[string]string{}
+	for i, n := range names {
+		draft[n] = fmt.Sprintf("0.%d17", i+1)
+		ex.fill("form.answer-form", n, draft[n])
+	}
+	draft["reason"] = "A draft, typed and not saved (invented)."
+	ex.fill("form.answer-form", "reason", draft["reason"])
+	const typed = `(() => { const m = {}; document.querySelectorAll("form.answer-form input[type=text], form.answer-form textarea").forEach(f => { m[f.name] = f.value; }); return m; })()`
+	draftKept := func(when string) {
+		t.Helper()
+		got := eval[map[string]string](ex, "the draft", typed)
+		for n, v := range draft {
+			if got[n] != v {
+				t.Errorf("%s: the draft's %s reads %q, typed %q", when, n, got[n], v)
+			}
+		}
+	}
+	const save = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
+
+	fac.postFromPage(d.url+"/round", "action=close&round=1")
+	if err := ex.poll(liveWithin+3*time.Second, `document.querySelector("#live-notice").innerText.includes("The facilitator has closed round 1.")`); err != nil {
+		t.Fatalf("the round closed: the expert's page did not say so: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("the round closed", "stays there, but it cannot be saved now", "Round 1 is closed.")
+	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed for this round" {
+		t.Errorf("the round closed: the save button is %q", got)
+	}
+	draftKept("the round closed")
+	shots.take(ex, "expert-live-closed-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
+	shots.take(ex, "expert-live-closed-390")
+	shots.part(ex, "#live-notice", "expert-live-closed-notice-390")
+	ex.viewport(1366, 900, false)
+
+	fac.postFromPage(d.url+"/round", "action=open&round=2&reason=Round+2+%28invented%29.")
+	if err := ex.poll(liveWithin+3*time.Second, `document.querySelector("#live-notice").innerText.includes("The facilitator has opened round 2.")`); err != nil {
+		t.Fatalf("round 2 opened: the expert's page did not say so: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("round 2 opened", "What the other experts said in round 1 can now be shown on this page", "Round 2 is open")
+	if ex.count("#feedback-live .panel-feedback") != 0 {
+		t.Errorf("round 2 opened: the feedback was put in under the expert, not offered")
+	}
+	if got := eval[string](ex, "the save button", save); got != "enabled: Save this answer" {
+		t.Errorf("round 2 opened: the save button is %q", got)
+	}
+	draftKept("round 2 opened")
+	shots.take(ex, "expert-live-round2-offer-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
+	shots.take(ex, "expert-live-round2-offer-390")
+	shots.part(ex, "#live-notice", "expert-live-round2-notice-390")
+
+	ex.do("show the feedback", chromedp.Click(chromedp.CSS(`[data-live-show="feedback-live"]`)))
+	ex.waitFor("the feedback shown", `!!document.querySelector("#feedback-live .panel-feedback")`)
+	ex.sees("the feedback shown", "What the other experts said")
+	draftKept("the feedback shown")
+	shots.take(ex, "expert-live-round2-feedback-390")
+	ex.viewport(1366, 900, false)
+	shots.take(ex, "expert-live-round2-feedback-1366")
+
+	// The link ended: the page says it no longer works, and saves
+	// nothing; the draft stays.
+	var expert int64
+	for _, e := range d.experts {
+		if e.Name == d.links[0].Name {
+			expert = e.ID
+		}
+	}
+	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
+	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
+		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
+	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed: this link no longer works" {
+		t.Errorf("the link ended: the save button is %q", got)
+	}
+	draftKept("the link ended")
+	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
+	shots.take(ex, "expert-live-gone-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
+	shots.take(ex, "expert-live-gone-390")
+	shots.part(ex, "#live-notice", "expert-live-gone-notice-390")
+	ex.noScriptErrors("the round followed")
+}
