@@ -121,3 +121,59 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	shots.part(ex, "#live-notice", "expert-live-gone-notice-390")
 	ex.noScriptErrors("the round followed")
 }
+
+// The expert's home followed nothing: a question added, a round closed or
+// opened, the workshop archived or brought back, their link ended, each
+// waited for a reload. It follows the workshop now, on the link's stream.
+func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+
+	ex := br.person("expert")
+	ex.viewport(1366, 900, false)
+	ex.open(site.URL + d.links[1].Path)
+	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	follows := func(what, expr string) {
+		t.Helper()
+		if err := ex.poll(liveWithin+3*time.Second, expr); err != nil {
+			t.Fatalf("%s: the expert's home did not follow: %v\n%s", what, err, clip(ex.text(), 2000))
+		}
+	}
+	items := ex.count(".question-list li")
+
+	fac.postFromPage(d.url+"/questions", "wording=How+many+in+100+spares+arrive+damaged%3F+%28invented%29&quantity=share+damaged&lower=0&upper=1&format=quantiles&preset=p05_50_95")
+	follows("a question added", fmt.Sprintf(`document.querySelectorAll(".question-list li").length === %d && document.body.innerText.includes("How many in 100 spares arrive damaged?")`, items+1))
+
+	fac.postFromPage(d.url+"/round", "action=close&round=1")
+	follows("the round closed", `document.querySelector("#home-state-live").innerText.includes("Round 1 is closed.")`)
+	fac.postFromPage(d.url+"/round", "action=open&round=2&reason=Round+2+%28invented%29.")
+	follows("round 2 opened", `document.querySelector("#home-state-live").innerText.includes("Round 2 is open") && !!document.querySelector("#home-state-live .round-next")`)
+
+	fac.postFromPage(d.url+"/archive", "action=archive&archive_reason=Done+%28invented%29.")
+	follows("the workshop archived", `!!document.querySelector("#home-state-live .banner-finished") && document.body.innerText.includes("The facilitator has closed this workshop after round 2.")`)
+	shots.take(ex, "expert-home-archived-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	shots.take(ex, "expert-home-archived-390")
+	ex.viewport(1366, 900, false)
+
+	fac.postFromPage(d.url+"/archive", "action=restore&archive_reason=One+more+look+%28invented%29.")
+	follows("the workshop brought back", `!document.querySelector("#home-state-live .banner-finished") && document.querySelector("#home-state-live").innerText.includes("Round 2 is closed.")`)
+
+	var expert int64
+	for _, e := range d.experts {
+		if e.Name == d.links[1].Name {
+			expert = e.ID
+		}
+	}
+	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
+	follows("the link ended", `document.documentElement.getAttribute("data-live") === "gone"`)
+	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one, so your questions cannot be opened from it.")
+	shots.take(ex, "expert-home-gone-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	shots.take(ex, "expert-home-gone-390")
+	ex.noScriptErrors("the home followed")
+}

@@ -854,7 +854,7 @@ func (s *Server) expertHomePage(w http.ResponseWriter, r *http.Request) {
 		}
 		v.Questions = append(v.Questions, it)
 	}
-	s.renderPage(w, r, http.StatusOK, pageMeta{Title: ws.Title, Invented: ws.Invented, Caution: true}, expertHome(v))
+	s.renderPage(w, r, http.StatusOK, pageMeta{Title: ws.Title, Invented: ws.Invented, Caution: true, Scripts: []string{"/static/live.js"}}, expertHome(v))
 }
 
 // expertScope is what a question's handlers work on: the expert, their

@@ -392,3 +392,10 @@ const expertStopped = "This page has lost touch with the workshop since {since},
 // expertLinkGone is what an expert's page says once its link no longer
 // works.
 const expertLinkGone = "This link no longer works: the facilitator has ended it or given you a new one. Nothing more can be saved from this page; anything you typed stays here. Please ask the facilitator for your current link."
+
+// expertHomeStopped and expertHomeLinkGone are the same for the expert's
+// home, where nothing is typed.
+const (
+	expertHomeStopped  = "This page has lost touch with the workshop since {since}, so it may be out of date. It tries again by itself."
+	expertHomeLinkGone = "This link no longer works: the facilitator has ended it or given you a new one, so your questions cannot be opened from it. Please ask the facilitator for your current link."
+)

@@ -360,3 +360,34 @@ func textOf(t *testing.T, body, id string) string {
 	b = b[strings.Index(b, ">")+1:]
 	return strings.Join(strings.Fields(regexp.MustCompile(`<[^>]*>`).ReplaceAllString(b, " ")), " ")
 }
+
+// The expert's home follows the workshop on the link's stream: it carries
+// the stream, the count it opens at and its own address; the round's
+// line, the questions and a workshop archived (a banner) are its live
+// parts, and a link that no longer works is said in the home's words.
+func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
+	h, ws, _, tokA, _ := expertLiveHarness(t)
+	_, st := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	if st == nil {
+		t.Fatal("the stream was refused")
+	}
+	opened := versionIn(t, st.next(t, "hello"))
+	ex := newHarnessClient(h)
+	home := "/e/" + tokA + "/"
+	_, body := ex.get(home)
+	for _, want := range []string{`data-live-src="/e/` + tokA + `/events"`, `data-live-version="` + opened + `"`, `data-live-page="` + home + `"`,
+		`id="home-state-live" data-live`, `id="home-questions-live" data-live`, `data-live-gone="` + expertHomeLinkGone + `"`, `/static/live.js`} {
+		if !strings.Contains(body, want) {
+			t.Errorf("the home lacks %s", want)
+		}
+	}
+	if !strings.Contains(textOf(t, body, "home-questions-live"), "What share of seals fail in the first year?") {
+		t.Errorf("the home's live list lacks the question")
+	}
+	h.post(workshopPath(ws.ID)+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Done (invented)."}})
+	_, body = ex.get(home)
+	if b := block(body, "home-state-live"); !strings.Contains(b, `class="banner banner-live banner-finished"`) ||
+		!strings.Contains(textOf(t, body, "home-state-live"), "The facilitator has closed this workshop after round 1.") {
+		t.Errorf("the archived workshop's home has no banner in its live part:\n%s", b)
+	}
+}
