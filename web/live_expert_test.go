@@ -391,3 +391,71 @@ func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
 		t.Errorf("the archived workshop's home has no banner in its live part:\n%s", b)
 	}
 }
+
+// An answer the facilitator enters for one expert reaches that expert's
+// stream and no other's; a true value entered and hidden reaches nobody
+// (a change then would tell the experts which questions are calibration
+// questions); shown, it reaches every expert.
+func TestExpertStreamHearsItsOwnEntryAndTheTrueValueShown(t *testing.T) {
+	h, ws, q, tokA, tokB := expertLiveHarness(t)
+	if res, body := h.post(workshopPath(ws.ID)+"/questions", url.Values{"wording": {"What share of the invented audit's seals leaked?"}, "quantity": {"share leaking"},
+		"lower": {"0"}, "upper": {"1"}, "format": {"quantiles"}, "preset": {"p05_50_95"}, "calibration": {"on"}, "true_value": {"0.3"}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("a calibration question: %d %.300s", res.StatusCode, body)
+	}
+	qs, err := h.db.Questions(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	seed := qs[len(qs)-1]
+	_, a := openRawStream(t, h.ts.URL, "/e/"+tokA+"/events")
+	_, b := openRawStream(t, h.ts.URL, "/e/"+tokB+"/events")
+	if a == nil || b == nil {
+		t.Fatal("a stream was refused")
+	}
+	va, vb := versionIn(t, a.next(t, "hello A")), versionIn(t, b.next(t, "hello B"))
+	// changed waits for st's next event that moves its count from v,
+	// failing when beats say it stays; still checks two beats say it did.
+	changed := func(st *rawStream, v, what string) string {
+		t.Helper()
+		for i := 0; i < 20; i++ {
+			if got := versionIn(t, st.next(t, what)); got != v {
+				return got
+			}
+		}
+		t.Fatalf("%s: the count stayed at %s", what, v)
+		return ""
+	}
+	still := func(st *rawStream, v, what string) {
+		t.Helper()
+		for i := 0; i < 2; i++ {
+			ev := st.next(t, what)
+			if got := versionIn(t, ev); ev.Kind != "beat" || got != v {
+				t.Fatalf("%s: %s %s, the count was %s", what, ev.Kind, got, v)
+			}
+		}
+	}
+	es, err := h.db.Experts(context.Background(), ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	qp := workshopPath(ws.ID) + "/q/" + strconv.FormatInt(q.ID, 10)
+	entry := quantiles("0.02", "0.05", "0.2")
+	entry.Set("channel", "paper_form")
+	if res, body := h.post(qp+"/enter/"+strconv.FormatInt(es[0].ID, 10)+"/save", entry); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("enter for A: %d %.300s", res.StatusCode, body)
+	}
+	va = changed(a, va, "an answer entered for A, on A's stream")
+	still(b, vb, "an answer entered for A, on B's stream")
+
+	cal := workshopPath(ws.ID) + "/calibration/q/" + strconv.FormatInt(seed.ID, 10)
+	if res, body := h.post(cal, url.Values{"true_value": {"0.04"}, "reason": {"Known from the invented audit."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("enter a hidden true value: %d %.300s", res.StatusCode, body)
+	}
+	still(a, va, "a hidden true value, on A's stream")
+	still(b, vb, "a hidden true value, on B's stream")
+	if res, body := h.post(cal, url.Values{"true_value": {"0.04"}, "reveal": {"on"}, "reason": {"Shown to the panel (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("show the true value: %d %.300s", res.StatusCode, body)
+	}
+	changed(a, va, "the true value shown, on A's stream")
+	changed(b, vb, "the true value shown, on B's stream")
+}
