@@ -283,9 +283,12 @@ func TestOneLinkHoldsABoundedNumberOfStreams(t *testing.T) {
 // carries the count its stream opens at.
 func TestExpertQuestionPageSaysWhatChangedSinceItsForm(t *testing.T) {
 	h, ws, q, tokA, tokB := expertLiveHarness(t)
+	// A third expert: round 2 shows the others' answers only where two or
+	// more others answered (feedback.othersShown).
+	_, tokC := h.addExpert(ws, "Cleo Rask")
 	ex := newHarnessClient(h)
 	page := "/e/" + tokA + "/q/" + strconv.FormatInt(q.ID, 10)
-	for _, tok := range []string{tokA, tokB} {
+	for _, tok := range []string{tokA, tokB, tokC} {
 		if res, body := ex.post("/e/"+tok+"/q/"+strconv.FormatInt(q.ID, 10)+"/save", quantiles("0.02", "0.05", "0.15")); res.StatusCode != http.StatusSeeOther {
 			t.Fatalf("save: %d %.300s", res.StatusCode, body)
 		}
