@@ -56,7 +56,12 @@ func newExpertRig(t *testing.T, names ...string) *expertRig {
 		t.Fatal(err)
 	}
 	srv := httptest.NewServer(s.Handler())
-	t.Cleanup(srv.Close)
+	// A browser's page still open holds the expert's event stream, which
+	// Close would wait for; the connections are cut first.
+	t.Cleanup(func() {
+		srv.CloseClientConnections()
+		srv.Close()
+	})
 	g := &expertRig{t: t, db: db, srv: srv, s: s}
 	g.ws = workshop.Workshop{Title: "Seal wear panel (invented)", Purpose: "A prior for the share of pump seals that fail within a year.",
 		Decision: "spare-part stock", Notes: "FACILITATOR-ONLY-NOTE", Invented: true}
