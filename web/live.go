@@ -128,20 +128,7 @@ func (h *liveHub) publishEvent(workshop int64, ev liveEvent) {
 	h.changes[workshop]++
 	ev.Version = h.versionLocked(workshop)
 	for ch := range h.subs[workshop] {
-		select {
-		case ch <- ev:
-		default:
-			// One is pending already: this newer change takes its
-			// place, so the stream tells the latest count (a pending
-			// one's older count, kept by live-worker.js, let a tab
-			// joining later miss this change). Publishers hold h.mu,
-			// so the place just emptied is this one's.
-			select {
-			case <-ch:
-			default:
-			}
-			ch <- ev
-		}
+		offer(ch, ev)
 	}
 }
 

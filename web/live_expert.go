@@ -125,8 +125,11 @@ func (h *liveHub) publishOwn(ws, expert int64) {
 	}
 }
 
-// offer puts ev on ch without waiting: a newer change takes the place of
-// one pending, as in publishEvent. The caller holds the hub's lock.
+// offer puts ev on ch without waiting. When one is pending already this
+// newer change takes its place, so the stream tells the latest count (a
+// pending one's older count, kept by live-worker.js, let a tab joining
+// later miss this change). The caller holds the hub's lock, so the place
+// just emptied is this one's.
 func offer(ch chan liveEvent, ev liveEvent) {
 	select {
 	case ch <- ev:
