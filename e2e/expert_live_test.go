@@ -54,9 +54,15 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	}
 	const save = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
 
+	// The notice is a live region that stays on the page, so a screen
+	// reader announces what comes into it (one put in anew may go unsaid).
+	eval[bool](ex, "note the notice's region", `!!(window.noticeRegion = document.querySelector("#live-notice"))`)
 	fac.postFromPage(d.url+"/round", "action=close&round=1")
 	if err := ex.poll(liveWithin+3*time.Second, `document.querySelector("#live-notice").innerText.includes("The facilitator has closed round 1.")`); err != nil {
 		t.Fatalf("the round closed: the expert's page did not say so: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	if !eval[bool](ex, "the notice's region", `window.noticeRegion === document.querySelector("#live-notice") && window.noticeRegion.getAttribute("role") === "status" && !window.noticeRegion.querySelector("[role=status]")`) {
+		t.Error("the round closed: the notice came in a new element, not into the live region the page had")
 	}
 	ex.sees("the round closed", "stays there, but it cannot be saved now", "Round 1 is closed.")
 	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed for this round" {

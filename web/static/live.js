@@ -110,6 +110,11 @@
   // link, the scrolling table), it is put on the same place in fresh: by
   // its id, else by its rank among what the keyboard reaches; replacing
   // dropped it to the top of the page, and the next Tab started over.
+  //
+  // A part marked data-live-region is a live region (role="status"): it
+  // stays on the page and takes the fresh part's contents, since screen
+  // readers announce a change inside a region they already know and may
+  // say nothing of a region put in anew.
   function replace(el, fresh) {
     var a = document.activeElement;
     var rank = -1;
@@ -118,7 +123,12 @@
       id = a.id;
       rank = focusable(el).indexOf(a);
     }
-    el.replaceWith(fresh);
+    if (el.hasAttribute("data-live-region")) {
+      el.replaceChildren.apply(el, Array.prototype.slice.call(fresh.childNodes));
+      fresh = el;
+    } else {
+      el.replaceWith(fresh);
+    }
     if (rank < 0 && !id) { return; }
     var back = (id && document.getElementById(id)) || focusable(fresh)[rank];
     if (back && fresh.contains(back)) {
