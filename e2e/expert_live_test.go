@@ -178,6 +178,10 @@ func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
 	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
 	follows("the link ended", `document.documentElement.getAttribute("data-live") === "gone"`)
 	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one, so your questions cannot be opened from it.")
+	// The questions' links, which now lead only to a refusal, are put away.
+	if n := eval[int](ex, "the questions' links shown", `Array.from(document.querySelectorAll(".question-list a")).filter(a => a.offsetParent !== null).length`); n != 0 {
+		t.Errorf("the link ended: %d links to questions still shown", n)
+	}
 	shots.take(ex, "expert-home-gone-1366")
 	ex.viewport(phoneWidth, phoneHeight, true)
 	shots.take(ex, "expert-home-gone-390")

@@ -275,8 +275,9 @@
   // goneNow says, on an expert's page, that it can no longer save: the
   // link was ended or replaced (404), or the question withdrawn (410, in
   // the words of the page the server answered). Every place marked
-  // data-live-gone-slot says so, the save button is disabled and says
-  // why, and the page stops following: nothing typed is touched.
+  // data-live-gone-slot says so, what is marked data-live-gone-hide is
+  // hidden, the save button is disabled and says why, and the page stops
+  // following: nothing typed is touched.
   function goneNow(status, html) {
     gone = true;
     var words = goneWords;
@@ -297,6 +298,11 @@
       p.setAttribute("role", "alert");
       p.textContent = words;
       slot.replaceChildren(p);
+    });
+    // What leads only to the link's refusal (the home's list of
+    // questions) is put away.
+    Array.prototype.forEach.call(document.querySelectorAll("[data-live-gone-hide]"), function (el) {
+      el.hidden = true;
     });
     Array.prototype.forEach.call(document.querySelectorAll("[data-live-save] button"), function (b) {
       b.disabled = true;
