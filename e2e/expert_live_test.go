@@ -187,3 +187,37 @@ func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
 	shots.take(ex, "expert-home-gone-390")
 	ex.noScriptErrors("the home followed")
 }
+
+// A question the facilitator withdraws (retires) while an expert has it
+// open with a draft: the page's own fetch is answered 410, and the page
+// says in the server's words that the question was withdrawn and takes
+// no answers, the save button is disabled and says why, the draft stays,
+// and the page stops following.
+func TestExpertPageFollowsItsQuestionWithdrawn(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+
+	ex := br.person("expert")
+	ex.viewport(1366, 900, false)
+	q := d.qs[0]
+	ex.open(site.URL + d.links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	ex.fill("form.answer-form", "reason", "A draft, typed and not saved (invented).")
+
+	fac.postFromPage(d.url+"/q/"+strconv.FormatInt(q.ID, 10)+"/retire", "action=retire&retire_reason=Asked+twice+%28invented%29.")
+	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
+		t.Fatalf("the question withdrawn: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("the question withdrawn", "Question withdrawn.", "The facilitator has withdrawn this question, so it takes no answers.", "Anything you typed stays here.")
+	const save = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
+	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed: the question was withdrawn" {
+		t.Errorf("the question withdrawn: the save button is %q", got)
+	}
+	if got := eval[string](ex, "the draft", `document.querySelector("form.answer-form textarea[name=reason]").value`); got != "A draft, typed and not saved (invented)." {
+		t.Errorf("the question withdrawn: the draft's reasoning reads %q", got)
+	}
+	ex.noScriptErrors("the question withdrawn")
+}
