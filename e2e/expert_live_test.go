@@ -9,6 +9,32 @@ import (
 	"github.com/chromedp/chromedp"
 )
 
+// followingExpert starts the invented demo with the facilitator signed in
+// on its overview, and the expert of link i in a browser context of their
+// own on their home, or on the demo's first question where onQuestion,
+// once the page follows the workshop.
+func followingExpert(t *testing.T, i int, onQuestion bool) (demo, *person, *person) {
+	t.Helper()
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+	ex := br.person("expert")
+	ex.viewport(1366, 900, false)
+	page := site.URL + d.links[i].Path
+	if onQuestion {
+		page += "q/" + strconv.FormatInt(d.qs[0].ID, 10)
+	}
+	ex.open(page)
+	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	return d, fac, ex
+}
+
+// saveButton reads the expert's save button: enabled or disabled, and its
+// words.
+const saveButton = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
+
 // An expert typing a draft learned that the facilitator had closed their
 // round only when Save was refused, and saw round 2's feedback only after
 // a reload. The question's page follows its round now, without touching
@@ -17,18 +43,8 @@ import (
 // round 2 opened, the page says so and offers the other experts' answers,
 // shown on the expert's word, the draft still there.
 func TestExpertPageFollowsItsRound(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	d, fac, ex := followingExpert(t, 0, true)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.open(d.url + "/")
-
-	ex := br.person("expert")
-	ex.viewport(1366, 900, false)
-	q := d.qs[0]
-	ex.open(site.URL + d.links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
-	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
 
 	// A draft: every value box and the reasoning typed, nothing saved.
 	names := eval[[]string](ex, "the value boxes", `Array.from(document.querySelectorAll("form.answer-form input[type=text]")).map(i => i.name)`)
@@ -52,7 +68,6 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 			}
 		}
 	}
-	const save = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
 
 	// The notice is a live region that stays on the page, so a screen
 	// reader announces what comes into it (one put in anew may go unsaid).
@@ -65,7 +80,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 		t.Error("the round closed: the notice came in a new element, not into the live region the page had")
 	}
 	ex.sees("the round closed", "stays there, but it cannot be saved now", "Round 1 is closed.")
-	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed for this round" {
+	if got := eval[string](ex, "the save button", saveButton); got != "disabled: Saving is closed for this round" {
 		t.Errorf("the round closed: the save button is %q", got)
 	}
 	draftKept("the round closed")
@@ -84,7 +99,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	if ex.count("#feedback-live .panel-feedback") != 0 {
 		t.Errorf("round 2 opened: the feedback was put in under the expert, not offered")
 	}
-	if got := eval[string](ex, "the save button", save); got != "enabled: Save this answer" {
+	if got := eval[string](ex, "the save button", saveButton); got != "enabled: Save this answer" {
 		t.Errorf("round 2 opened: the save button is %q", got)
 	}
 	draftKept("round 2 opened")
@@ -115,7 +130,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
 	}
 	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
-	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed: this link no longer works" {
+	if got := eval[string](ex, "the save button", saveButton); got != "disabled: Saving is closed: this link no longer works" {
 		t.Errorf("the link ended: the save button is %q", got)
 	}
 	draftKept("the link ended")
@@ -132,17 +147,8 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 // opened, the workshop archived or brought back, their link ended, each
 // waited for a reload. It follows the workshop now, on the link's stream.
 func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	d, fac, ex := followingExpert(t, 1, false)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.open(d.url + "/")
-
-	ex := br.person("expert")
-	ex.viewport(1366, 900, false)
-	ex.open(site.URL + d.links[1].Path)
-	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
 	follows := func(what, expr string) {
 		t.Helper()
 		if err := ex.poll(liveWithin+3*time.Second, expr); err != nil {
@@ -194,17 +200,8 @@ func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
 // no answers, the save button is disabled and says why, the draft stays,
 // and the page stops following.
 func TestExpertPageFollowsItsQuestionWithdrawn(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.open(d.url + "/")
-
-	ex := br.person("expert")
-	ex.viewport(1366, 900, false)
+	d, fac, ex := followingExpert(t, 0, true)
 	q := d.qs[0]
-	ex.open(site.URL + d.links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
-	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
 	ex.fill("form.answer-form", "reason", "A draft, typed and not saved (invented).")
 
 	fac.postFromPage(d.url+"/q/"+strconv.FormatInt(q.ID, 10)+"/retire", "action=retire&retire_reason=Asked+twice+%28invented%29.")
@@ -212,8 +209,7 @@ func TestExpertPageFollowsItsQuestionWithdrawn(t *testing.T) {
 		t.Fatalf("the question withdrawn: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
 	}
 	ex.sees("the question withdrawn", "Question withdrawn.", "The facilitator has withdrawn this question, so it takes no answers.", "Anything you typed stays here.")
-	const save = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
-	if got := eval[string](ex, "the save button", save); got != "disabled: Saving is closed: the question was withdrawn" {
+	if got := eval[string](ex, "the save button", saveButton); got != "disabled: Saving is closed: the question was withdrawn" {
 		t.Errorf("the question withdrawn: the save button is %q", got)
 	}
 	if got := eval[string](ex, "the draft", `document.querySelector("form.answer-form textarea[name=reason]").value`); got != "A draft, typed and not saved (invented)." {

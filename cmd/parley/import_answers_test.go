@@ -346,14 +346,11 @@ func TestImportAnswersSkipsUnchangedRows(t *testing.T) {
 	}
 }
 
-// A row correcting an expert's answer of the open round, its reason cell
-// empty, keeps the reasoning of that answer, and the listing says so; it
-// saved the answer without it, lost from the feedback, the reasons page
-// and the room. A reasoning of an earlier round is not kept: the expert
-// has not restated it.
-func TestImportAnswersKeepsTheReasoning(t *testing.T) {
-	path, ws, _ := cliWorkshop(t)
-	w := strconv.FormatInt(ws, 10)
+// answeredOnQ2 is the command-line workshop with its first expert's
+// answer to Q2 saved with the given reasoning.
+func answeredOnQ2(t *testing.T, reason string) (path string, ws int64, own workshop.Revision) {
+	t.Helper()
+	path, ws, _ = cliWorkshop(t)
 	db, err := store.Open(path)
 	check(t, err)
 	ctx := context.Background()
@@ -361,10 +358,22 @@ func TestImportAnswersKeepsTheReasoning(t *testing.T) {
 	check(t, err)
 	es, err := db.Experts(ctx, ws)
 	check(t, err)
-	own := workshop.Revision{QuestionID: qs[1].ID, ExpertID: es[0].ID, Reason: "Ten seasons of counts (invented).",
+	own = workshop.Revision{QuestionID: qs[1].ID, ExpertID: es[0].ID, Reason: reason,
 		Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.6}}}
 	check(t, db.SaveRevision(ctx, &own))
 	check(t, db.Close())
+	return path, ws, own
+}
+
+// A row correcting an expert's answer of the open round, its reason cell
+// empty, keeps the reasoning of that answer, and the listing says so; it
+// saved the answer without it, lost from the feedback, the reasons page
+// and the room. A reasoning of an earlier round is not kept: the expert
+// has not restated it.
+func TestImportAnswersKeepsTheReasoning(t *testing.T) {
+	path, ws, own := answeredOnQ2(t, "Ten seasons of counts (invented).")
+	w := strconv.FormatInt(ws, 10)
+	ctx := context.Background()
 	sheet := writeSheet(t, "expert,question,q05,q50,q95,reason\nInes,Q2,0.1,0.3,0.65,\n")
 	code, out, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet)
 	if code != 0 || !strings.Contains(out, " — the reason cell is empty: keeps the reasoning of Ines's current answer\n") {
@@ -374,7 +383,7 @@ func TestImportAnswersKeepsTheReasoning(t *testing.T) {
 	if last := revs[len(revs)-1]; last.Reason != own.Reason || last.Answer.Values[2] != 0.65 {
 		t.Fatalf("saved %+v; want the reasoning kept", last)
 	}
-	db, err = store.Open(path)
+	db, err := store.Open(path)
 	check(t, err)
 	err = db.SetRound(ctx, ws, 1, false, "")
 	if err == nil {
@@ -397,19 +406,8 @@ func TestImportAnswersKeepsTheReasoning(t *testing.T) {
 // reasoning, where an empty reason cell keeps the current answer's, and
 // says so in its listing; a reasoning beside it exits 2 naming the cell.
 func TestImportAnswersClearsTheReasoning(t *testing.T) {
-	path, ws, _ := cliWorkshop(t)
+	path, ws, _ := answeredOnQ2(t, "Meant for another question (invented).")
 	w := strconv.FormatInt(ws, 10)
-	db, err := store.Open(path)
-	check(t, err)
-	ctx := context.Background()
-	qs, err := db.Questions(ctx, ws)
-	check(t, err)
-	es, err := db.Experts(ctx, ws)
-	check(t, err)
-	own := workshop.Revision{QuestionID: qs[1].ID, ExpertID: es[0].ID, Reason: "Meant for another question (invented).",
-		Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.6}}}
-	check(t, db.SaveRevision(ctx, &own))
-	check(t, db.Close())
 	before := len(revisionsIn(t, path, ws))
 	code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in",
 		writeSheet(t, "expert,question,q05,q50,q95,reason,clear_reason\nInes,Q2,0.1,0.3,0.65,Counts (invented).,x\n"))
