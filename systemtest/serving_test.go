@@ -336,3 +336,52 @@ func TestServeExpertSaveBurst(t *testing.T) {
 		t.Fatalf("another link's save: %d %v %.300s", status, err, body)
 	}
 }
+
+// `parley serve --expert-page-burst N` gives each expert link N pages at
+// once, then paces them: the real binary answers the next page of that
+// link 429 with Retry-After, while another link's page is still shown.
+func TestServeExpertPageBurst(t *testing.T) {
+	const burst = 3
+	dbPath := filepath.Join(t.TempDir(), "pages.db")
+	ws := seedWorkshop(t, dbPath, 2, 1)
+	c := startServer(t, parleyBinary(t), dbPath, freeAddr(t), "--expert-page-burst", strconv.Itoa(burst))
+	defer c.kill()
+	ctx := t.Context()
+	cl := newClient(2)
+	get := func(path string) (int, string, error) {
+		req, err := http.NewRequestWithContext(ctx, http.MethodGet, c.base+path, nil)
+		if err != nil {
+			return 0, "", err
+		}
+		return do(cl, req)
+	}
+	home := "/e/" + ws.experts[0].token + "/"
+	for i := range burst {
+		if status, body, err := get(home); err != nil || status != http.StatusOK {
+			t.Fatalf("page %d of %d: %d %v %.300s", i+1, burst, status, err, body)
+		}
+	}
+	// The allowance comes back at four pages a second, far slower than
+	// pages go out on loopback: within a few more, one is refused.
+	refused := false
+	for i := 0; i < 20 && !refused; i++ {
+		status, body, err := get(questionPagePath(ws.experts[0].token, ws.questions[0].ID))
+		switch {
+		case err != nil:
+			t.Fatal(err)
+		case status == http.StatusTooManyRequests:
+			if !strings.Contains(body, "reload the page") {
+				t.Fatalf("the refused page says: %.300s", body)
+			}
+			refused = true
+		case status != http.StatusOK:
+			t.Fatalf("page %d: %d %.300s", burst+i+1, status, body)
+		}
+	}
+	if !refused {
+		t.Fatalf("20 pages past --expert-page-burst %d were all shown", burst)
+	}
+	if status, body, err := get("/e/" + ws.experts[1].token + "/"); err != nil || status != http.StatusOK {
+		t.Fatalf("another link's page: %d %v %.300s", status, err, body)
+	}
+}

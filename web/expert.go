@@ -780,8 +780,8 @@ func (s *Server) expertRoutes(r chi.Router) {
 	// takes no turn: it holds its connection, not a CPU.
 	r.Get("/events", s.expertEvents)
 	// Previews and saves go before pages when the server is busy (turns.go).
-	r.Get("/", s.inTurn(turns.Page, s.expertHomePage))
-	r.Get("/q/{qid}", s.inTurn(turns.Page, s.expertQuestionPage))
+	r.Get("/", s.throttlePages(s.inTurn(turns.Page, s.expertHomePage)))
+	r.Get("/q/{qid}", s.throttlePages(s.inTurn(turns.Page, s.expertQuestionPage)))
 	r.Post("/q/{qid}/preview", s.throttlePreviews(s.inTurn(turns.Interactive, s.expertPreviewPost)))
 	r.Post("/q/{qid}/save", s.throttleSaves(s.inTurn(turns.Interactive, s.expertSavePost)))
 }

@@ -26,11 +26,24 @@ import (
 // question after question can use (the load test's experts save ten
 // questions a round without a pause); beyond it the save is refused with
 // 429, Retry-After and a page saying nothing was saved.
+//
+// Pages have one too. A link handed on, or a script or a stuck tab
+// reloading an expert's home and question pages without pause, took one
+// page turn after another from the experts reading theirs: a page of
+// round 2 pools the others' answers. An expert may open PageBurst pages
+// at once and then one every pageEvery, four a second, far more than a
+// person reading can ask for, and more than a live page fetches, which
+// gathers changes arriving together into one fetch (live.js) and, on a
+// 429, simply tries again a few seconds later. Beyond it a page is
+// answered 429 with Retry-After and a few words before it takes a turn.
+// The facilitator's pages, behind the sign-in, have no such allowance.
 const (
 	PreviewBurst = 20
 	previewEvery = 100 * time.Millisecond
 	SaveBurst    = 30
 	saveEvery    = time.Second
+	PageBurst    = 120
+	pageEvery    = 250 * time.Millisecond
 )
 
 // linkThrottle holds each expert's allowance of one kind of request.
@@ -88,4 +101,11 @@ func (s *Server) throttlePreviews(next http.HandlerFunc) http.HandlerFunc {
 func (s *Server) throttleSaves(next http.HandlerFunc) http.HandlerFunc {
 	return s.throttled(s.saves, "One moment", "This link has saved more answers in a short while than the server takes from one person. "+
 		"Nothing was saved this time: wait a few seconds, then go back and save again.", next)
+}
+
+// throttlePages answers a page over the expert's allowance with 429 and
+// Retry-After, before it takes a turn.
+func (s *Server) throttlePages(next http.HandlerFunc) http.HandlerFunc {
+	return s.throttled(s.pages, "One moment", "This link has opened more pages in a short while than the server shows one person. "+
+		"Nothing is lost: wait a few seconds, then reload the page.", next)
 }

@@ -99,3 +99,42 @@ func TestOneLinkCannotSaveWithoutPause(t *testing.T) {
 		t.Fatalf("another expert's save meanwhile: %d %.300s", res.StatusCode, body)
 	}
 }
+
+// A link that opens pages without pause (a script, a stuck tab reloading)
+// is answered 429 with Retry-After past its allowance, before it takes a
+// turn, on its home and its question pages alike; another expert's pages
+// and the facilitator's go on.
+func TestOneLinkCannotOpenPagesWithoutPause(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	frozen := time.Date(2026, 3, 3, 10, 0, 0, 0, time.UTC)
+	h.srv.now = func() time.Time { return frozen } // no allowance comes back during the test
+	ex := newHarnessOn(t, h)
+	home := links[0].Path
+	question := strings.TrimSuffix(home, "/") + "/q/" + strconv.FormatInt(qs[0].ID, 10)
+	for i := range PageBurst {
+		page := home
+		if i%2 == 1 {
+			page = question
+		}
+		if res, body := ex.get(page); res.StatusCode != http.StatusOK {
+			t.Fatalf("page %d of the allowance: %d %.300s", i+1, res.StatusCode, body)
+		}
+	}
+	for _, page := range []string{home, question} {
+		res, body := ex.get(page)
+		if res.StatusCode != http.StatusTooManyRequests || res.Header.Get("Retry-After") != "1" || !strings.Contains(body, "reload the page") {
+			t.Fatalf("%s past the allowance: %d, Retry-After %q %.300s", page, res.StatusCode, res.Header.Get("Retry-After"), body)
+		}
+	}
+	if res, body := ex.get(links[1].Path); res.StatusCode != http.StatusOK {
+		t.Fatalf("another expert's home meanwhile: %d %.300s", res.StatusCode, body)
+	}
+	if res, body := h.get(workshopPath(ws.ID)); res.StatusCode != http.StatusOK {
+		t.Fatalf("the facilitator's overview meanwhile: %d %.300s", res.StatusCode, body)
+	}
+	// The allowance comes back at one page every pageEvery.
+	frozen = frozen.Add(pageEvery)
+	if res, body := ex.get(home); res.StatusCode != http.StatusOK {
+		t.Fatalf("after %v: %d %.300s", pageEvery, res.StatusCode, body)
+	}
+}

@@ -47,6 +47,9 @@ type Options struct {
 	// SaveBurst is how many answers an expert may save at once
 	// (preview_throttle.go); 0 means web.SaveBurst.
 	SaveBurst int
+	// PageBurst is how many pages an expert's link may open at once
+	// (preview_throttle.go); 0 means web.PageBurst.
+	PageBurst int
 	// Heartbeat is how often an idle event stream says it is still
 	// there (live.go); 0 means 20 s. A page that hears nothing for a
 	// little over two of them takes its stream for dead. Tests shorten it.
@@ -89,9 +92,9 @@ type Server struct {
 	// once holds the posts of forms sent with a key, so that a form
 	// sent twice is saved once (once.go).
 	once *sentOnce
-	// previews and saves limit each expert's previews and saves
+	// previews, saves and pages limit each expert's previews, saves and pages
 	// (preview_throttle.go).
-	previews, saves *linkThrottle
+	previews, saves, pages *linkThrottle
 	// signIns limits what sign-in attempts may cost (signin_throttle.go).
 	signIns *signInThrottle
 }
@@ -105,6 +108,7 @@ func New(st Store, opt Options) (*Server, error) {
 		fits:  newFitCache(fitCacheSize),
 		turns: turns.New(runtime.GOMAXPROCS(0)), live: newLiveHub(), signIns: newSignInThrottle(), once: newSentOnce(), previews: newLinkThrottle(opt.PreviewBurst, PreviewBurst, previewEvery),
 		saves:  newLinkThrottle(opt.SaveBurst, SaveBurst, saveEvery),
+		pages:  newLinkThrottle(opt.PageBurst, PageBurst, pageEvery),
 		issued: newKept[issuedEntry](issuedFor, keptLinks), sheets: newKept[keptSheet](sheetFor, keptSheets)}
 	if s.now == nil {
 		s.now = time.Now

@@ -24,7 +24,7 @@ import (
 )
 
 func init() {
-	command("serve", "run the workshop server (--addr, --db, --no-demo, --tls-cert, --tls-key, --base-url, --expert-save-burst); the default command", runServe)
+	command("serve", "run the workshop server (--addr, --db, --no-demo, --tls-cert, --tls-key, --base-url, --expert-save-burst, --expert-page-burst); the default command", runServe)
 }
 
 // serveConfig is what `parley serve` was asked to do.
@@ -33,7 +33,10 @@ type serveConfig struct {
 	noDemo            bool
 	// saveBurst is how many answers one expert link may save at once
 	// before its saves are paced (web.Options.SaveBurst).
-	saveBurst       int
+	saveBurst int
+	// pageBurst is how many pages one expert link may open at once
+	// before its pages are paced (web.Options.PageBurst).
+	pageBurst       int
 	tlsCert, tlsKey string
 	// grace is how long a shutdown waits for requests in flight
 	// (shutdownGrace when zero).
@@ -55,6 +58,7 @@ func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	fs.StringVar(&c.tlsKey, "tls-key", "", "TLS private key `file` (with --tls-cert)")
 	fs.StringVar(&c.baseURL, "base-url", "", "address printed in links handed out, e.g. http://192.168.1.20:8080 (default: from --addr)")
 	fs.IntVar(&c.saveBurst, "expert-save-burst", web.SaveBurst, "answers one expert link may save at once; further saves from that link are taken at one a second")
+	fs.IntVar(&c.pageBurst, "expert-page-burst", web.PageBurst, "pages one expert link may open at once; further pages from that link are shown at four a second")
 	if code, ok := parseArgs(fs, args, stdout, stderr); !ok {
 		return code
 	}
@@ -63,6 +67,9 @@ func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	}
 	if c.saveBurst < 1 {
 		return fail(stderr, "serve", badInput("expert-save-burst", "must be a whole number of at least 1, not %d", c.saveBurst))
+	}
+	if c.pageBurst < 1 {
+		return fail(stderr, "serve", badInput("expert-page-burst", "must be a whole number of at least 1, not %d", c.pageBurst))
 	}
 	if (c.tlsCert == "") != (c.tlsKey == "") {
 		return fail(stderr, "serve", badInput("tls-cert", "--tls-cert and --tls-key go together"))
@@ -177,6 +184,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		Logger:        slog.New(slog.NewTextHandler(stderr, nil)),
 		SecureCookies: c.tlsCert != "",
 		SaveBurst:     c.saveBurst,
+		PageBurst:     c.pageBurst,
 	})
 	if err != nil {
 		ln.Close()

@@ -215,6 +215,9 @@ func TestServeFlags(t *testing.T) {
 		{"--expert-save-burst", "0"},
 		{"--expert-save-burst", "-5"},
 		{"--expert-save-burst", "many"},
+		{"--expert-page-burst", "0"},
+		{"--expert-page-burst", "-1"},
+		{"--expert-page-burst", "lots"},
 	} {
 		var out, errOut bytes.Buffer
 		if code := runServe(args, nil, &out, &errOut); code != exitBadInput {
