@@ -42,10 +42,11 @@ type roomPrior struct {
 }
 
 // roomRationaleChars is the most of a rationale the prior display shows.
-// A rationale may have 4,000 characters (input.MaxLongText); under the
-// curve on a 1024×768 projector about 400 fit in five lines without
-// shrinking the picture much, and nobody scrolls a projector. A longer
-// one is cut at a word, and the display says where the whole is.
+// A rationale may have 4,000 characters (input.MaxLongText); across a
+// projector under the picture and the words beside it (style.css) about
+// 400 take three lines (seven under the picture alone at 1024×768), and
+// nobody scrolls a projector. A longer one is cut at a word, and the
+// display says where the whole is.
 const roomRationaleChars = 400
 
 // cutAtWord is text cut at a space at or before max characters (runes),
