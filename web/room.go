@@ -74,6 +74,7 @@ type roomView struct {
 	// where one is agreed; on the display (ShowPrior) Prior is the prior,
 	// or PriorMissing says why none is shown.
 	PriorLink    string
+	PriorLead    string // the words before PriorLink (priorLead, priorLeadChanged)
 	ShowPrior    bool
 	Prior        *roomPrior
 	PriorMissing string

@@ -67,8 +67,15 @@ func cutAtWord(text string, max int) (string, bool) {
 }
 
 // priorLead stands in the header's first line of a question with an
-// agreed prior, before the link to the prior display.
-const priorLead = "a prior has been agreed:"
+// agreed prior, before the link to the prior display; priorLeadChanged
+// where the pool the prior was agreed from has changed since
+// (poolChangeOf, the rule the display's notice follows): the header had
+// said only that a prior was agreed, and the room learned the rest only
+// on the display.
+const (
+	priorLead        = "a prior has been agreed:"
+	priorLeadChanged = "a prior has been agreed; the pool has changed since:"
+)
 
 // fillRoomPrior reads question q's agreed prior in force into v: the
 // link to the prior display, and on the display (show) the prior. A
@@ -101,8 +108,28 @@ func (s *Server) fillRoomPrior(r *http.Request, ws workshop.Workshop, q workshop
 	if a == nil {
 		return nil
 	}
+	// The rule the facilitator's panel and the priors CSV's pool_changed
+	// follow: the room was shown the prior agreed from a pool that is no
+	// longer the panel's, as if it were.
+	var change workshop.PoolChange
+	if a.Source == workshop.PriorFromPool {
+		data, err := s.readWorkshopData(r.Context(), ws)
+		if err != nil {
+			return err
+		}
+		c, ok, err := s.poolChangeOf(r.Context(), ws, data.state(q))
+		if err != nil {
+			return err
+		}
+		if ok {
+			change = c
+		}
+	}
 	if !show {
-		v.PriorLink = room + "?show=prior"
+		v.PriorLink, v.PriorLead = room+"?show=prior", priorLead
+		if change.Any() {
+			v.PriorLead = priorLeadChanged
+		}
 		return nil
 	}
 	if a.Source == workshop.PriorFromPool && len(a.Pooled) > 0 && len(a.Pooled) < roomLeastAnswers {
@@ -127,20 +154,7 @@ func (s *Server) fillRoomPrior(r *http.Request, ws workshop.Workshop, q workshop
 		p.Panel.Truth = &t
 	}
 	p.Notes = chart.PanelNotes(p.Panel)
-	// The rule the facilitator's panel and the priors CSV's pool_changed
-	// follow: the room was shown the prior agreed from a pool that is no
-	// longer the panel's, as if it were.
-	data, err := s.readWorkshopData(r.Context(), ws)
-	if err != nil {
-		return err
-	}
-	c, ok, err := s.poolChangeOf(r.Context(), ws, data.state(q))
-	if err != nil {
-		return err
-	}
-	if ok {
-		p.Changed = roomPoolChangeWords(c)
-	}
+	p.Changed = roomPoolChangeWords(change)
 	v.Prior, v.PriorMissing = p, ""
 	return nil
 }

@@ -6,6 +6,7 @@ import (
 	"html"
 	"net/http"
 	"net/url"
+	"regexp"
 	"strconv"
 	"strings"
 	"testing"
@@ -113,4 +114,59 @@ func TestRoomPriorSaysThePoolChanged(t *testing.T) {
 	if got, c := display(), csvSays(); got != "" || c != "false" {
 		t.Errorf("agreed again, the display says %q and pool_changed is %q", got, c)
 	}
+}
+
+// The room view's header, which links the prior display, says as the
+// display does when the pool a prior was agreed from has changed since,
+// by the same rule (poolChangeOf): it had said only "a prior has been
+// agreed", and the room learned the rest only once the display was up.
+// A consensus prior has no pool to change; agreed again, the prior is
+// the pool's as it stands.
+func TestRoomHeaderSaysThePoolChanged(t *testing.T) {
+	h, ws, qs, _, links := seeded(t)
+	q := qs[0]
+	qp := questionPath(ws.ID, q.ID)
+	// The header's first line in words, and whether the prior display
+	// says the pool changed.
+	header := func() (string, bool) {
+		t.Helper()
+		r, body := h.get(roomPath(ws.ID, q.ID))
+		if r.StatusCode != http.StatusOK {
+			t.Fatalf("room view: %d", r.StatusCode)
+		}
+		i := strings.Index(body, `<p class="room-where">`)
+		if i < 0 {
+			t.Fatal("no first line in the room's header")
+		}
+		line := body[i : i+strings.Index(body[i:], "</p>")]
+		line = strings.Join(strings.Fields(html.UnescapeString(regexp.MustCompile(`<[^>]*>`).ReplaceAllString(line, ""))), " ")
+		_, shown := h.get(roomPath(ws.ID, q.ID) + "?show=prior")
+		return line, strings.Contains(shown, "The pool has changed since this prior was agreed")
+	}
+	const plain, changed = "· a prior has been agreed: show it", "· a prior has been agreed; the pool has changed since: show it"
+	check := func(when string, wantChanged bool) {
+		t.Helper()
+		line, display := header()
+		want := plain
+		if wantChanged {
+			want = changed
+		}
+		if !strings.HasSuffix(line, want) || display != wantChanged {
+			t.Errorf("%s: the header reads %q, want it to end %q; the display says the pool changed: %v", when, line, want, display)
+		}
+	}
+	check("a consensus prior", false)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"The pool (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree the pool: %d %s", res.StatusCode, body)
+	}
+	check("just agreed from the pool", false)
+	if res, _ := h.post(links[1].Path+"q/"+strconv.FormatInt(q.ID, 10)+"/save",
+		url.Values{"values[0]": {"0.01"}, "values[1]": {"0.06"}, "values[2]": {"0.2"}, "reason": {"Rethought the tail (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("revise: %d", res.StatusCode)
+	}
+	check("after an expert revised", true)
+	if res, body := h.post(qp+"/agree", url.Values{"source": {"pool"}, "confirm_open": {"on"}, "rationale": {"Again (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("agree again: %d %s", res.StatusCode, body)
+	}
+	check("agreed again", false)
 }
