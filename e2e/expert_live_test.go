@@ -3,6 +3,7 @@ package e2e
 import (
 	"fmt"
 	"strconv"
+	"strings"
 	"testing"
 	"time"
 
@@ -187,6 +188,15 @@ func TestExpertHomeFollowsTheWorkshop(t *testing.T) {
 	// The questions' links, which now lead only to a refusal, are put away.
 	if n := eval[int](ex, "the questions' links shown", `Array.from(document.querySelectorAll(".question-list a")).filter(a => a.offsetParent !== null).length`); n != 0 {
 		t.Errorf("the link ended: %d links to questions still shown", n)
+	}
+	// Whoever holds the device next learns nothing of whose link it was:
+	// not the expert's name (the greeting), not what they answered or when
+	// (the list's tags), on the screen or anywhere in the page.
+	page := eval[string](ex, "the page", `document.documentElement.outerHTML`)
+	for _, what := range []string{d.links[1].Name, "Signed in by your private link", "answered this round", "answer stands", "not answered yet"} {
+		if strings.Contains(page, what) {
+			t.Errorf("the link ended: the page still holds %q:\n%s", what, clip(ex.text(), 2000))
+		}
 	}
 	shots.take(ex, "expert-home-gone-1366")
 	ex.viewport(phoneWidth, phoneHeight, true)

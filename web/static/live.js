@@ -276,7 +276,7 @@
   // link was ended or replaced (404), or the question withdrawn (410, in
   // the words of the page the server answered). Every place marked
   // data-live-gone-slot says so, what is marked data-live-gone-hide is
-  // hidden, the save button is disabled and says why, and the page stops
+  // removed, the save button is disabled and says why, and the page stops
   // following: nothing typed is touched.
   function goneNow(status, html) {
     gone = true;
@@ -299,10 +299,12 @@
       p.textContent = words;
       slot.replaceChildren(p);
     });
-    // What leads only to the link's refusal (the home's list of
-    // questions) is put away.
+    // What names the expert or their answers, or leads only to the
+    // link's refusal (the home's greeting and list of questions), is
+    // taken off the page, not merely hidden: whoever holds the phone
+    // next should find nothing of whose link it was.
     Array.prototype.forEach.call(document.querySelectorAll("[data-live-gone-hide]"), function (el) {
-      el.hidden = true;
+      el.remove();
     });
     Array.prototype.forEach.call(document.querySelectorAll("[data-live-save] button"), function (b) {
       b.disabled = true;
