@@ -30,7 +30,10 @@ import (
 // maxLinkStreams bounds the open streams of one private link: one per
 // browser (its tabs share one, live-worker.js), a few for an expert with
 // a phone and a laptop, or a browser without shared workers. A link
-// cannot hold more connections and goroutines than that.
+// cannot hold more connections and goroutines than that. The bound is
+// the link's, not the expert's: counted by expert, the streams of a link
+// just replaced (ending, or held by a client that reads nothing) were
+// counted against the new one, and refused the expert's new link.
 const maxLinkStreams = 4
 
 // maxExpertStreams bounds the experts' open streams on the whole server,
@@ -43,17 +46,17 @@ var errTooManyLinkStreams = errors.New("too many open event streams for one link
 
 // expertAudience is what the hub keeps of the experts' streams.
 type expertAudience struct {
-	// subs are each workshop's expert streams, with their expert.
-	subs     map[int64]map[chan liveEvent]int64
+	// subs are each workshop's expert streams, with their expert and link.
+	subs     map[int64]map[chan liveEvent]linkStream
 	n        int
-	perLink  map[int64]int    // open streams by expert
+	perLink  map[string]int   // open streams by link (its token's hash)
 	shared   map[int64]uint64 // changes every expert of a workshop sees
 	own      map[int64]uint64 // changes to one expert's own answers and link
 	expertWS map[int64]int64  // an expert's workshop, for own changes
 }
 
 func newExpertAudience() expertAudience {
-	return expertAudience{subs: map[int64]map[chan liveEvent]int64{}, perLink: map[int64]int{},
+	return expertAudience{subs: map[int64]map[chan liveEvent]linkStream{}, perLink: map[string]int{},
 		shared: map[int64]uint64{}, own: map[int64]uint64{}, expertWS: map[int64]int64{}}
 }
 
@@ -69,34 +72,43 @@ func (h *liveHub) expertVersionLocked(ws, expert int64) string {
 	return h.start + "-" + strconv.FormatUint(h.experts.shared[ws], 10) + "." + strconv.FormatUint(h.experts.own[expert], 10)
 }
 
-// subscribeExpert opens a stream of the changes expert's pages show.
-func (h *liveHub) subscribeExpert(ws, expert int64) (ch chan liveEvent, version string, cancel func(), err error) {
+// linkStream is whose an expert's stream is: the expert, and the link
+// (its token's hash) it was opened by.
+type linkStream struct {
+	expert int64
+	link   string
+}
+
+// subscribeExpert opens a stream of the changes expert's pages show, by
+// the link whose token hashes to link.
+func (h *liveHub) subscribeExpert(ws, expert int64, link []byte) (ch chan liveEvent, version string, cancel func(), err error) {
 	h.mu.Lock()
 	defer h.mu.Unlock()
 	a := &h.experts
+	by := linkStream{expert: expert, link: string(link)}
 	switch {
 	case h.closed:
 		return nil, "", nil, http.ErrServerClosed
-	case a.perLink[expert] >= maxLinkStreams:
+	case a.perLink[by.link] >= maxLinkStreams:
 		return nil, "", nil, errTooManyLinkStreams
 	case a.n >= maxExpertStreams:
 		return nil, "", nil, errTooManyStreams
 	}
 	ch = make(chan liveEvent, 1)
 	if a.subs[ws] == nil {
-		a.subs[ws] = map[chan liveEvent]int64{}
+		a.subs[ws] = map[chan liveEvent]linkStream{}
 	}
-	a.subs[ws][ch] = expert
+	a.subs[ws][ch] = by
 	a.n++
-	a.perLink[expert]++
+	a.perLink[by.link]++
 	return ch, h.expertVersionLocked(ws, expert), func() {
 		h.mu.Lock()
 		defer h.mu.Unlock()
 		if _, ok := a.subs[ws][ch]; ok {
 			delete(a.subs[ws], ch)
 			a.n--
-			if a.perLink[expert]--; a.perLink[expert] <= 0 {
-				delete(a.perLink, expert)
+			if a.perLink[by.link]--; a.perLink[by.link] <= 0 {
+				delete(a.perLink, by.link)
 			}
 		}
 	}, nil
@@ -107,8 +119,8 @@ func (h *liveHub) publishShared(ws int64) {
 	h.mu.Lock()
 	defer h.mu.Unlock()
 	h.experts.shared[ws]++
-	for ch, expert := range h.experts.subs[ws] {
-		offer(ch, liveEvent{Version: h.expertVersionLocked(ws, expert)})
+	for ch, by := range h.experts.subs[ws] {
+		offer(ch, liveEvent{Version: h.expertVersionLocked(ws, by.expert)})
 	}
 }
 
@@ -118,8 +130,8 @@ func (h *liveHub) publishOwn(ws, expert int64) {
 	h.mu.Lock()
 	defer h.mu.Unlock()
 	h.experts.own[expert]++
-	for ch, e := range h.experts.subs[ws] {
-		if e == expert {
+	for ch, by := range h.experts.subs[ws] {
+		if by.expert == expert {
 			offer(ch, liveEvent{Version: h.expertVersionLocked(ws, expert)})
 		}
 	}
@@ -161,13 +173,14 @@ type expertChange struct {
 // hears nothing more.
 func (s *Server) expertEvents(w http.ResponseWriter, r *http.Request) {
 	e := expertFrom(r.Context())
-	ch, version, cancel, err := s.live.subscribeExpert(e.WorkshopID, e.ID)
+	// requireExpert found the link by this hash.
+	hash, _ := tokenHash(chi.URLParam(r, "token"))
+	ch, version, cancel, err := s.live.subscribeExpert(e.WorkshopID, e.ID, hash)
 	if err != nil {
 		streamRefused(w, err)
 		return
 	}
 	defer cancel()
-	hash, _ := tokenHash(chi.URLParam(r, "token"))
 	s.serveStream(w, r, liveStream{
 		label:   "changes of your pages",
 		changes: ch, version: version,

@@ -4,6 +4,7 @@ import (
 	"bufio"
 	"context"
 	"encoding/json"
+	"fmt"
 	"net/http"
 	"net/http/httptest"
 	"net/url"
@@ -106,8 +107,15 @@ func versionIn(t *testing.T, ev rawEvent) string {
 // server whose streams beat every 100 ms.
 func expertLiveHarness(t *testing.T) (h *harness, ws workshop.Workshop, q workshop.Question, tokA, tokB string) {
 	t.Helper()
+	return expertLiveHarnessBeating(t, 100*time.Millisecond)
+}
+
+// expertLiveHarnessBeating is expertLiveHarness with streams that beat
+// every beat.
+func expertLiveHarnessBeating(t *testing.T, beat time.Duration) (h *harness, ws workshop.Workshop, q workshop.Question, tokA, tokB string) {
+	t.Helper()
 	h = newHarness(t)
-	srv, err := New(h.db, Options{Heartbeat: 100 * time.Millisecond})
+	srv, err := New(h.db, Options{Heartbeat: beat})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -273,6 +281,86 @@ func TestOneLinkHoldsABoundedNumberOfStreams(t *testing.T) {
 	if res, _ := openRawStream(t, h.ts.URL, "/e/not-a-link-at-all/events"); res.StatusCode != http.StatusNotFound {
 		t.Fatalf("a stream without a working link: %d", res.StatusCode)
 	}
+}
+
+// The bound of maxLinkStreams is a link's, not an expert's: the streams
+// of a link just replaced, not yet ended, were counted against the new
+// one, which was refused. A replaced link's streams then say "gone" and
+// end, and free their places.
+func TestReplacedLinksStreamsCountAgainstThemselvesAndEnd(t *testing.T) {
+	// Streams that beat once an hour: none ends on a beat here, only as
+	// the test makes it.
+	h, ws, _, tokA, _ := expertLiveHarnessBeating(t, time.Hour)
+	ctx := context.Background()
+	es, err := h.db.Experts(ctx, ws.ID)
+	if err != nil {
+		t.Fatal(err)
+	}
+	ada := es[0].ID
+	open := func(tok, what string, n int) []*rawStream {
+		t.Helper()
+		var sts []*rawStream
+		for i := 0; i < n; i++ {
+			res, st := openRawStream(t, h.ts.URL, "/e/"+tok+"/events")
+			if st == nil {
+				t.Fatalf("%s: stream %d refused: %d", what, i+1, res.StatusCode)
+			}
+			st.next(t, what+": hello")
+			sts = append(sts, st)
+		}
+		return sts
+	}
+	first := open(tokA, "the first link", maxLinkStreams)
+
+	// A new link, given while the first link's streams are still open
+	// (its streams not yet told, as between the store's change and the
+	// hub's word).
+	tokB, hash, err := newToken()
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := h.db.ReissueToken(ctx, ada, hash, "Lost the first link (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	second := open(tokB, "the new link beside the old one's open streams", maxLinkStreams)
+	if res, _ := openRawStream(t, h.ts.URL, "/e/"+tokB+"/events"); res.StatusCode != http.StatusTooManyRequests {
+		t.Fatalf("stream %d of the new link: %d, want 429", maxLinkStreams+1, res.StatusCode)
+	}
+
+	// The facilitator gives a third link: every stream of the two ended
+	// links says gone and ends, and the places are free for the third.
+	res, body := h.post(workshopPath(ws.ID)+"/experts/"+strconv.FormatInt(ada, 10)+"/reissue",
+		url.Values{"confirm": {"yes"}, "reason": {"Lost the second link too (invented)."}})
+	if res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("reissue: %d %s", res.StatusCode, body)
+	}
+	_, page := h.get(res.Header.Get("Location"))
+	m := linkPattern.FindStringSubmatch(page)
+	if m == nil {
+		t.Fatal("reissue: no link on the page it leads to")
+	}
+	for i, st := range append(first, second...) {
+		for said := ""; said != "gone"; {
+			ev := st.next(t, fmt.Sprintf("ended stream %d", i+1))
+			if ev.Kind == "change" {
+				t.Fatalf("ended stream %d was told of a change: %s", i+1, ev.Data)
+			}
+			said = ev.Kind
+		}
+		select {
+		case <-st.ended:
+		case <-time.After(5 * time.Second):
+			t.Fatalf("ended stream %d stayed open after saying gone", i+1)
+		}
+	}
+	deadline := time.Now().Add(5 * time.Second)
+	for h.srv.live.expertStreams() != 0 && time.Now().Before(deadline) {
+		time.Sleep(10 * time.Millisecond)
+	}
+	if n := h.srv.live.expertStreams(); n != 0 {
+		t.Fatalf("%d streams of ended links still counted", n)
+	}
+	open(m[1], "the third link", maxLinkStreams)
 }
 
 // The expert's question page, fetched by its live script with the state
