@@ -1377,6 +1377,16 @@ func (s *Server) anonymousPanel(r *http.Request, sc expertScope, v *expertQuesti
 	others, ok := fb.othersShown(sc.expert.ID)
 	if !ok {
 		v.FewOthers = fewOthersNote(len(others), v.FeedbackRound)
+		if len(others) == 0 {
+			// A question added after the round closed: nobody could have
+			// answered it then, as the room view says.
+			evs, err := s.store.Events(r.Context(), sc.workshop.ID)
+			if err != nil {
+				s.logFailure(r, "round feedback", err, "question", sc.question.ID)
+			} else if addedAfterClose(evs, sc.question.ID, v.FeedbackRound) {
+				v.FewOthers = addedAfterExpertNote(v.FeedbackRound, sc.workshop.Archived)
+			}
+		}
 		return
 	}
 	q := sc.question

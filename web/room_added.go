@@ -37,3 +37,16 @@ func addedAfterNote(round int) string {
 	return "This question was added after round " + r + " closed, so nobody had answered it then. " +
 		"The panel's answers appear here when round " + strconv.Itoa(round+1) + " closes."
 }
+
+// addedAfterExpertNote is the same account on an expert's question page,
+// in the place of the other experts' answers from round `round`: "No
+// other expert had answered this question when round 1 closed" read as
+// if the others had passed over a question they were never asked. No
+// next round is promised once the workshop is closed.
+func addedAfterExpertNote(round int, archived bool) string {
+	note := "This question was added after round " + strconv.Itoa(round) + " closed, so nobody had answered it then and there is nothing from the other experts to show"
+	if archived {
+		return note + "."
+	}
+	return note + " yet. Their round " + strconv.Itoa(round+1) + " answers can be shown here, without their names, if the facilitator opens round " + strconv.Itoa(round+2) + "."
+}

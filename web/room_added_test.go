@@ -1,6 +1,7 @@
 package web
 
 import (
+	"html"
 	"net/http"
 	"net/url"
 	"strconv"
@@ -102,5 +103,45 @@ func TestRoomOfAQuestionNobodyAnsweredSaysAnsweredNotRevised(t *testing.T) {
 	}
 	if _, body := h.get(roomPath(ws.ID, qs[0].ID)); !strings.Contains(body, "No expert has revised this question in round 2 yet.") {
 		t.Error("room of Q1, answered in round 1: the count no longer says revised")
+	}
+}
+
+// An expert's page of a question added after round 1 closed gives the
+// room view's account, in an expert's words: "No other expert had
+// answered this question when round 1 closed" read as if the others had
+// passed it over. A question asked from round 1 that nobody answered
+// keeps that sentence. Once the workshop is closed, no next round is
+// promised.
+func TestExpertPageOfAQuestionAddedMidWorkshop(t *testing.T) {
+	h, ws, _, _, links := seeded(t)
+	early := h.addQuantileQuestion(t, ws.ID, "Asked in round 1 (invented)?", "spares used")
+	h.nextRound(t, ws.ID)
+	late := h.addQuantileQuestion(t, ws.ID, "Added in round 2 (invented)?", "boards swapped")
+	page := func(q workshop.Question) string {
+		t.Helper()
+		res, body := h.get(links[0].Path + "q/" + strconv.FormatInt(q.ID, 10))
+		if res.StatusCode != http.StatusOK {
+			t.Fatalf("the expert's page of question %d: %d", q.ID, res.StatusCode)
+		}
+		return html.UnescapeString(body)
+	}
+	const added = "This question was added after round 1 closed, so nobody had answered it then and there is nothing from the other experts to show"
+	const next = " yet. Their round 2 answers can be shown here, without their names, if the facilitator opens round 3."
+	const none = "No other expert had answered this question when round 1 closed."
+	if body := page(late); !strings.Contains(body, added+next) || strings.Contains(body, none) {
+		t.Errorf("round 2: the added question's page does not say it was added after round 1 closed:\n%s", clipAround(body, "What the other experts said"))
+	}
+	if body := page(early); !strings.Contains(body, none) || strings.Contains(body, "was added after") {
+		t.Error("round 2: the page of a question asked from round 1 and not answered does not say no other expert had answered it")
+	}
+	// The room says the same of the question.
+	if _, body := h.get(roomPath(ws.ID, late.ID)); !strings.Contains(html.UnescapeString(body), "This question was added after round 1 closed, so nobody had answered it then.") {
+		t.Error("the room view of the added question does not say it was added after round 1 closed")
+	}
+	if res, body := h.post(workshopPath(ws.ID)+"/archive", url.Values{"action": {"archive"}, "archive_reason": {"Done (invented)."}}); res.StatusCode != http.StatusSeeOther {
+		t.Fatalf("archive: %d %s", res.StatusCode, body)
+	}
+	if body := page(late); !strings.Contains(body, added+".") || strings.Contains(body, "if the facilitator opens round") {
+		t.Error("archived: the added question's page still promises a next round, or no longer says it was added after round 1 closed")
 	}
 }
