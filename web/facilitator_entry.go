@@ -455,5 +455,7 @@ func (s *Server) expertPage(w http.ResponseWriter, r *http.Request) {
 		}
 		v.Rows = append(v.Rows, row)
 	}
-	s.renderPage(w, r, http.StatusOK, facilitatorMeta(ws, e.Name, "overview"), expertViewPage(v))
+	m := facilitatorMeta(ws, e.Name, "overview")
+	m.Scripts = []string{"/static/live.js"}
+	s.renderPage(w, r, http.StatusOK, m, expertViewPage(v))
 }

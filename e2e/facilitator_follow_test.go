@@ -1,0 +1,133 @@
+package e2e
+
+import (
+	"context"
+	"net/url"
+	"strconv"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/chromedp/chromedp"
+)
+
+// followingFacilitator starts the invented demo with the expert called
+// name in a browser context of their own on their home, the facilitator
+// signed in on page (under the workshop; "{expert}" stands for the
+// expert's id) once it follows the workshop, and another tab of the
+// facilitator's on the overview. It returns the expert's id and link.
+func followingFacilitator(t *testing.T, name, page string) (d demo, s *site, fac, other, ex *person, id int64, link string) {
+	t.Helper()
+	s, d = startDemo(t)
+	br := startBrowser(t)
+	for _, e := range d.experts {
+		if e.Name == name {
+			id = e.ID
+		}
+	}
+	for _, l := range d.links {
+		if l.Name == name {
+			link = s.URL + l.Path
+		}
+	}
+	if id == 0 || link == "" {
+		t.Fatalf("the demo has no expert %q", name)
+	}
+	ex = br.person("expert")
+	ex.open(link)
+	fac = br.person("facilitator")
+	signIn(t, s, fac)
+	other = fac.tab("another tab")
+	other.open(d.url + "/")
+	fac.viewport(1366, 900, false)
+	fac.open(d.url + strings.ReplaceAll(page, "{expert}", strconv.FormatInt(id, 10)))
+	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	// The page as loaded: a reload would lose this.
+	eval[bool](fac, "mark the page", `window.loadedOnce = true`)
+	return d, s, fac, other, ex, id, link
+}
+
+// latestRevision is the id of expert's latest revision of question q.
+func latestRevision(t *testing.T, s *site, expert, q int64) int64 {
+	t.Helper()
+	revs, err := s.DB.ExpertRevisions(context.Background(), expert)
+	if err != nil {
+		t.Fatal(err)
+	}
+	var id int64
+	for _, rv := range revs {
+		if rv.QuestionID == q && rv.ID > id {
+			id = rv.ID
+		}
+	}
+	if id == 0 {
+		t.Fatalf("expert %d has no revision of question %d", expert, q)
+	}
+	return id
+}
+
+// follows waits for expr on p's page, which must come by the page's
+// stream, not by a reload.
+func follows(t *testing.T, p *person, what, expr string) {
+	t.Helper()
+	if err := p.poll(liveWithin+3*time.Second, expr); err != nil {
+		t.Fatalf("%s: the page did not follow: %v\n%s", what, err, clip(p.text(), 2500))
+	}
+	if !eval[bool](p, "the page not reloaded", `window.loadedOnce === true`) {
+		t.Fatalf("%s: the page was loaded again, not followed", what)
+	}
+}
+
+// saveAs posts an answer of 5/50/95% values to question q from the
+// expert's own page of it.
+func saveAs(ex *person, link string, q int64, values [3]string, reason string) {
+	path := link + "q/" + strconv.FormatInt(q, 10)
+	ex.open(path)
+	f := url.Values{"reason": {reason}}
+	for i, v := range values {
+		f.Set("values["+strconv.Itoa(i)+"]", v)
+	}
+	ex.postFromPage(path+"/save", f.Encode())
+}
+
+// twoShots takes the page at 1366 and 390 px, and leaves it at 1366.
+func twoShots(shots *screenshots, p *person, name string) {
+	shots.take(p, name+"-1366")
+	p.viewport(phoneWidth, phoneHeight, true)
+	shots.take(p, name+"-390")
+	p.viewport(1366, 900, false)
+}
+
+// The facilitator's page for one expert stood still: the expert's save
+// from their own browser, a judgement withdrawn and the link ended in
+// another tab each waited for a reload. It follows the workshop now.
+func TestFacilitatorsExpertPageFollowsTheWorkshop(t *testing.T) {
+	d, site, fac, other, ex, ines, link := followingFacilitator(t, "Ines Varga", "/experts/{expert}")
+	shots := newScreenshots(t)
+	q := d.qs[0]
+	twoShots(shots, fac, "fac-expert-before")
+
+	// Ines saves from her own browser: her answer comes into the table.
+	saveAs(ex, link, q.ID, [3]string{"0.0111", "0.0777", "0.2222"}, "Revised after the discussion (invented).")
+	follows(t, fac, "Ines's save", `document.querySelector("#expert-answers-live").innerText.includes("0.0777")`)
+	twoShots(shots, fac, "fac-expert-saved")
+
+	// Withdrawn in another tab: the table counts it, the withdrawn
+	// judgements list it with the reason, and her earlier answer stands.
+	rv := latestRevision(t, site, ines, q.ID)
+	const why = "Typed into the wrong question (invented)."
+	other.postFromPage(d.url+"/q/"+strconv.FormatInt(q.ID, 10)+"/revisions/"+strconv.FormatInt(rv, 10)+"/withdraw", url.Values{"reason": {why}}.Encode())
+	follows(t, fac, "the withdrawal", `document.querySelector("#expert-answers-live").innerText.includes("1 judgement withdrawn") && !document.querySelector("#expert-answers-live").innerText.includes("0.0777")`)
+	fac.sees("the withdrawal", "Withdrawn judgements", why)
+	fac.do("the withdrawn list in view", chromedp.ScrollIntoView(chromedp.CSS("#withdrawn")))
+	twoShots(shots, fac, "fac-expert-withdrawn")
+
+	// The link ended in another tab: the page says so, and offers no
+	// entry on her behalf.
+	other.postFromPage(d.url+"/experts/"+strconv.FormatInt(ines, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
+	follows(t, fac, "the link ended", `!!document.querySelector("#expert-state-live .tag-closed") && document.querySelectorAll("#expert-answers-live a[href*='/enter/']").length === 0`)
+	fac.sees("the link ended", "Ines Varga's link is ended: no answers arrive from them unless you give them a new one.")
+	fac.do("the top in view", chromedp.ScrollIntoView(chromedp.CSS("h1")))
+	twoShots(shots, fac, "fac-expert-revoked")
+	fac.noScriptErrors("the expert's page followed")
+}
