@@ -9,6 +9,8 @@ import (
 	"time"
 
 	"github.com/chromedp/chromedp"
+
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // followingFacilitator starts the invented demo with the expert called
@@ -130,4 +132,88 @@ func TestFacilitatorsExpertPageFollowsTheWorkshop(t *testing.T) {
 	fac.do("the top in view", chromedp.ScrollIntoView(chromedp.CSS("h1")))
 	twoShots(shots, fac, "fac-expert-revoked")
 	fac.noScriptErrors("the expert's page followed")
+}
+
+// The calibration page stood still: an expert's save and a withdrawal
+// left the scores as they were, a true value revealed and a weight set in
+// another tab left the page saying the old ones, until a reload. It
+// follows the workshop now, and a true value's form being filled in is
+// left as typed throughout.
+func TestCalibrationPageFollowsTheWorkshop(t *testing.T) {
+	d, site, fac, other, ex, ole, link := followingFacilitator(t, "Ole Brandt", "/calibration")
+	shots := newScreenshots(t)
+	// Hidden true values of questions Ole answered, which his scores
+	// count.
+	revs, err := site.DB.ExpertRevisions(context.Background(), ole)
+	if err != nil {
+		t.Fatal(err)
+	}
+	answered := map[int64]bool{}
+	for _, rv := range revs {
+		answered[rv.QuestionID] = true
+	}
+	var seeds []workshop.Question
+	for _, q := range d.qs {
+		if q.Calibration && q.TrueValue != nil && !q.Revealed && answered[q.ID] {
+			seeds = append(seeds, q)
+		}
+	}
+	if len(seeds) < 2 {
+		t.Fatalf("the demo has %d hidden true values, want two", len(seeds))
+	}
+	typedIn, changed := seeds[0], seeds[1]
+	// A draft in one calibration question's true-value form.
+	form := `form[action$="/calibration/q/` + strconv.FormatInt(typedIn.ID, 10) + `"]`
+	const draft = "Checked against the (invented) inspection log; a draft."
+	fac.fill(form, "reason", draft)
+	draftKept := func(when string) {
+		t.Helper()
+		if got := eval[string](fac, "the draft", `document.querySelector('`+form+` textarea[name=reason]').value`); got != draft {
+			t.Errorf("%s: the draft reads %q", when, got)
+		}
+	}
+	scores := func() string {
+		return eval[string](fac, "the scores", `document.querySelector("#scores-table").innerText`)
+	}
+	before := scores()
+	twoShots(shots, fac, "fac-calibration-before")
+
+	// Ole, whose narrow ranges miss every true value, answers one of them
+	// with a range that holds it: his calibration score moves.
+	tv := *changed.TrueValue
+	saveAs(ex, link, changed.ID, [3]string{strconv.FormatFloat(tv/2, 'f', 4, 64), strconv.FormatFloat(tv, 'f', 4, 64), strconv.FormatFloat(min(1, tv*2), 'f', 4, 64)}, "Looked again (invented).")
+	follows(t, fac, "Ole's save", `document.querySelector("#scores-table").innerText !== `+strconv.Quote(before))
+	draftKept("Ole's save")
+	twoShots(shots, fac, "fac-calibration-saved")
+
+	// Withdrawn in another tab: the scores are as before.
+	rv := latestRevision(t, site, ole, changed.ID)
+	other.postFromPage(d.url+"/q/"+strconv.FormatInt(changed.ID, 10)+"/revisions/"+strconv.FormatInt(rv, 10)+"/withdraw", "reason=Not+his+answer+%28invented%29.")
+	follows(t, fac, "the withdrawal", `document.querySelector("#scores-table").innerText === `+strconv.Quote(before))
+	draftKept("the withdrawal")
+
+	// The other question's true value revealed in another tab.
+	card := "#seed-" + strconv.FormatInt(changed.ID, 10) + "-facts"
+	if fac.count(card) != 1 {
+		t.Fatalf("no %s on the calibration page", card)
+	}
+	other.postFromPage(d.url+"/calibration/q/"+strconv.FormatInt(changed.ID, 10), url.Values{
+		"true_value": {strconv.FormatFloat(tv, 'g', -1, 64)}, "reveal": {"on"}, "reason": {"Shown after round 1 (invented)."}}.Encode())
+	follows(t, fac, "the reveal", `document.querySelector(`+strconv.Quote(card)+`).innerText.includes("revealed to the experts")`)
+	draftKept("the reveal")
+	shots.part(fac, "#seed-"+strconv.FormatInt(changed.ID, 10), "fac-calibration-revealed-card-1366")
+	shots.part(fac, "#seed-"+strconv.FormatInt(typedIn.ID, 10), "fac-calibration-draft-card-1366")
+
+	// Performance weights set in another tab: the account says so.
+	other.postFromPage(d.url+"/calibration/weights", "scheme=performance&reason=Classical+model+weights+%28invented%29.")
+	follows(t, fac, "the weights set", `document.querySelector("#weights-account-live").innerText.includes("performance weights set")`)
+	draftKept("the weights set")
+	fac.do("the weights in view", chromedp.ScrollIntoView(chromedp.CSS("#weights")))
+	twoShots(shots, fac, "fac-calibration-weights")
+	shots.part(fac, "#weights", "fac-calibration-weights-part-1366")
+	fac.viewport(phoneWidth, phoneHeight, true)
+	shots.part(fac, "#weights-account-live", "fac-calibration-weights-account-390")
+	shots.part(fac, ".live-status", "fac-calibration-status-390")
+	fac.viewport(1366, 900, false)
+	fac.noScriptErrors("the calibration page followed")
 }

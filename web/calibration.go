@@ -139,6 +139,17 @@ func (s *Server) calibrationCSV(w http.ResponseWriter, r *http.Request) {
 
 // calibrationCSVPath links the download of the scored answers, with the
 // page's fixed cut-off when it has one.
+// livePage is the address live.js fetches the page at: the page with its
+// fixed cut-off, when one is typed and taken, whatever form the page was
+// shown after.
+func (v calibrationView) livePage() string {
+	p := calibrationPath(v.Workshop.ID)
+	if a := strings.TrimSpace(v.AlphaForm.Value("alpha")); a != "" && v.AlphaForm.OK() {
+		p += "?" + url.Values{"alpha": {a}}.Encode()
+	}
+	return p
+}
+
 func calibrationCSVPath(ws int64, af *Form) string {
 	p := calibrationPath(ws) + ".csv"
 	if a := strings.TrimSpace(af.Value("alpha")); a != "" && af.OK() {
@@ -272,6 +283,7 @@ func (s *Server) showCalibration(w http.ResponseWriter, r *http.Request, status 
 	}
 	m := facilitatorMeta(ws, "Calibration: "+ws.Title, "calibration")
 	m.Caution = true
+	m.Scripts = []string{"/static/live.js"}
 	s.renderPage(w, r, status, m, calibrationPage(v))
 }
 
