@@ -439,7 +439,7 @@ func TestImportAnswersReadsTheQuestionAsSheetsWriteIt(t *testing.T) {
 	for _, c := range []struct{ cell, want string }{
 		{"2.5", "row 2, column question: must name the question by its number, 3, Q3 or Question 3"},
 		{"Q 2b", "row 2, column question: must name the question by its number"},
-		{"Q2 hatch share", `row 2, column question: names a quantity other than the question's of that number ("Q2 hatch share", but Q2 asks for "survival share")`},
+		{"Q2 hatch share", `row 2, column question: names a quantity, units or wording other than the question's of that number ("Q2 hatch share", but Q2 asks for "survival share")`},
 	} {
 		code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", writeSheet(t, "expert,question,q05,q50,q95\nInes,"+c.cell+",0.1,0.3,0.6\n"))
 		if code != 2 || !strings.Contains(errOut, c.want) {

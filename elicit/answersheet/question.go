@@ -12,17 +12,23 @@ import (
 // as Parley's pages write it: 3 on the overview's grid, Q3 on the
 // facilitator's pages, Question 3 on the expert's, and 3.0 as a
 // spreadsheet writes a number cell formatted with decimals. The number
-// may be followed by the question's quantity, as a list copied from the
-// overview (Q3 wall loss share) or the expert's page (Question 3, wall
-// loss share) carries it; the quantity must then be that question's, so
-// that a list copied with one line out of step is refused rather than
-// read by its numbers. Anything else (3.5, +3, #3, Q3b, "three") is
-// refused naming the rule: a cell only a guess could read.
+// may be followed by the question's name in any form Parley writes it
+// beside a number: its quantity (Q3 wall loss share on the overview,
+// Question 3, wall loss share on the expert's page, Q3: wall loss share
+// in the report), the quantity with its units (Q3: wall loss share
+// (share of tanks) in the report's agreed priors, wall loss share share
+// of tanks on the overview's grid), the quantity in brackets (Q3 (wall
+// loss share), the report's retired questions) or its wording (Q3: Share
+// of tanks with wall loss?, the room's title). That name must then be
+// the question's, so that a list copied with one line out of step is
+// refused rather than read by its numbers. Anything else (3.5, +3, #3,
+// Q3b, "three") is refused naming the rule: a cell only a guess could
+// read.
 
 // Rules of the question cell.
 const (
-	RuleQuestionForm elicit.Rule = "must name the question by its number, 3, Q3 or Question 3 (3.0 as a spreadsheet writes it), which its quantity may follow, or by id:N"
-	RuleQuantity     elicit.Rule = "names a quantity other than the question's of that number"
+	RuleQuestionForm elicit.Rule = "must name the question by its number, 3, Q3 or Question 3 (3.0 as a spreadsheet writes it), which its quantity may follow as Parley writes it (Q3 wall loss share, Q3: wall loss share (share of tanks)), or by id:N"
+	RuleQuantity     elicit.Rule = "names a quantity, units or wording other than the question's of that number"
 )
 
 // questionCell is a question cell read: by id (id > 0) or by number,
@@ -111,9 +117,32 @@ func findQuestion(line int, s string, questions []workshop.Question) (workshop.Q
 		}
 		return workshop.Question{}, rowErr(line, "question", RuleQuestion, "%s", shownCell(s))
 	}
-	if c.quantity != "" && !sameName(c.quantity, found.Quantity) {
+	if c.quantity != "" && !namesQuestion(c.quantity, *found) {
+		asks := shownCell(found.Quantity)
+		if found.Units != "" {
+			asks += " (" + input.Clip(found.Units, 40) + ")"
+		}
 		return workshop.Question{}, rowErr(line, "question", RuleQuantity, "%s, but Q%d asks for %s",
-			shownCell(s), found.Position, shownCell(found.Quantity))
+			shownCell(s), found.Position, asks)
 	}
 	return *found, nil
+}
+
+// namesQuestion reports whether the text after a question cell's number
+// names q as Parley writes it beside its number: the quantity alone, in
+// brackets (the report's retired questions), with its units in brackets
+// (the report's agreed priors, the panel's and the entry page's line
+// under the title) or after a space (the overview's grid), or the
+// question's wording (the room's title).
+func namesQuestion(s string, q workshop.Question) bool {
+	names := []string{q.Quantity, "(" + q.Quantity + ")", q.Wording}
+	if q.Units != "" {
+		names = append(names, q.Quantity+" ("+q.Units+")", q.Quantity+" "+q.Units)
+	}
+	for _, n := range names {
+		if n != "" && sameName(s, n) {
+			return true
+		}
+	}
+	return false
 }

@@ -18,7 +18,7 @@ import (
 // tried).
 func TestQuestionCell(t *testing.T) {
 	qs := []workshop.Question{
-		{ID: 41, Position: 1, Quantity: "wall loss share"},
+		{ID: 41, Position: 1, Quantity: "wall loss share", Units: "share of tanks", Wording: "Share of tanks with wall loss?"},
 		{ID: 42, Position: 2, Quantity: "coating share"},
 		{ID: 43, Position: 3, Quantity: "valve share", Retired: true},
 		{ID: 44, Position: 12, Quantity: "O’Neil share"},
@@ -46,6 +46,13 @@ func TestQuestionCell(t *testing.T) {
 		{"2 – coating share", 42, ""},
 		{"Q12 O'Neil share", 44, ""},
 		{"012", 44, ""},
+		// The quantity with its units, in brackets and as the wording, as
+		// the report, the overview's grid and the room write them.
+		{"Q1: wall loss share (share of tanks)", 41, ""},
+		{"1 wall loss share share of tanks", 41, ""},
+		{"Q1 (wall loss share)", 41, ""},
+		{"Q2 (coating share)", 42, ""},
+		{"Q1: Share of tanks with wall loss?", 41, ""},
 		// Refused by their form.
 		{"1.5", 0, RuleQuestionForm},
 		{"1.", 0, RuleQuestionForm},
@@ -70,6 +77,14 @@ func TestQuestionCell(t *testing.T) {
 		// out of step.
 		{"Q1 coating share", 0, RuleQuantity},
 		{"Question 2, wall loss share", 0, RuleQuantity},
+		// Units that are not the question's, units on a question without
+		// any, and a quantity in brackets out of step.
+		{"Q1: wall loss share (share of wells)", 0, RuleQuantity},
+		{"Q1 wall loss share (proportion)", 0, RuleQuantity},
+		{"Q2 coating share (share of tanks)", 0, RuleQuantity},
+		{"Q1 (coating share)", 0, RuleQuantity},
+		{"Q1 (wall loss share", 0, RuleQuantity},
+		{"Q1 share of tanks", 0, RuleQuantity},
 	} {
 		q, err := findQuestion(7, c.cell, qs)
 		if c.want != 0 {
@@ -90,7 +105,7 @@ func TestQuestionCell(t *testing.T) {
 	if _, err := findQuestion(7, "Question 3", qs); err == nil || !strings.Contains(err.Error(), "Q3 is retired") {
 		t.Errorf("a retired question by Question 3: %v", err)
 	}
-	if _, err := findQuestion(7, "Q1 coating share", qs); err == nil || !strings.Contains(err.Error(), `Q1 asks for "wall loss share"`) {
+	if _, err := findQuestion(7, "Q1 coating share", qs); err == nil || !strings.Contains(err.Error(), `Q1 asks for "wall loss share" (share of tanks)`) {
 		t.Errorf("a quantity out of step does not name the question's: %v", err)
 	}
 }
