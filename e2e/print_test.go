@@ -114,6 +114,22 @@ func TestReportPrints(t *testing.T) {
 			t.Errorf("%s: the summary of agreed priors does not come first (at %d, the panel at %d)", pp.name, i, j)
 		}
 	}
+	// Every table cell's words stay inside the cell on paper: laid out
+	// for print at each paper's width between its margins (print.css's
+	// @page, 13 mm each side), no cell's content is wider than its box.
+	// The history's times, once they said "UTC", ran over the round and
+	// the expert's name beside them.
+	fac.media("print")
+	for _, pp := range papers {
+		fac.viewport(int64((pp.width*25.4-26)/25.4*96), 1000, false)
+		fac.open(wsURL + "/report")
+		fac.sees("report", "Full revision history")
+		over := eval[[]string](fac, "cells wider than their box", `Array.from(document.querySelectorAll("main td, main th")).filter(c => c.getClientRects().length > 0 && c.scrollWidth > c.clientWidth + 1).map(c => c.textContent.trim().replace(/\s+/g, " ").slice(0, 60) + " (" + c.scrollWidth + " px in " + c.clientWidth + ")")`)
+		for _, c := range over {
+			t.Errorf("%s: printed, a cell runs past its box: %s", pp.name, c)
+		}
+	}
+	fac.media("")
 }
 
 func urlEscape(s string) string {
