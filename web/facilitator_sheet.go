@@ -495,15 +495,25 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 	f := newForm(r.PostForm)
 	key := f.Value("key")
 	sh, found, taken := s.sheets.take(key, s.now())
-	if taken {
-		// Sent twice: the first is saving it, or has; nothing more is.
-		// The first saves only what the preview read (else it saves
-		// nothing and gives the sheet back), so the rows it left out as
-		// unchanged are the preview's: the second said "saved" without
-		// them.
-		s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(sh.unchanged()))
-		http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
-		return
+	for taken {
+		// Sent twice (a double click on a slow save, a replay): the
+		// first is saving it, or has. This one waits for the first to
+		// end and says what it did; it said "saved" at once, and the
+		// first could then fail. The first saves only what the preview
+		// read (else it saves nothing and gives the sheet back), so the
+		// rows it left out as unchanged are the preview's.
+		if s.sheets.await(r.Context(), key) {
+			s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(sh.unchanged()))
+			http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
+			return
+		}
+		if r.Context().Err() != nil {
+			return // the browser went: no one to answer
+		}
+		// The first saved nothing and gave the sheet back: this one
+		// confirms it in its turn, as if sent after the first's answer,
+		// and answers with what that does.
+		sh, found, taken = s.sheets.take(key, s.now())
 	}
 	if found && sh.workshop != ws.ID {
 		s.sheets.untake(key)
@@ -514,38 +524,51 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 		s.renderSheet(w, r, http.StatusUnprocessableEntity, sheetView{Workshop: ws, Form: f})
 		return
 	}
+	// The claim ends once this answer is written, whatever happens in
+	// between, so a copy awaiting it is never left waiting.
+	saved := false
+	defer func() {
+		if saved {
+			s.sheets.settle(key)
+		} else {
+			s.sheets.untake(key)
+		}
+	}()
+	saved = s.saveSheet(w, r, ws, f, sh)
+}
+
+// saveSheet saves a kept sheet confirmed, read again against the
+// workshop, and answers: the overview when it saved, else the preview
+// as it now reads or the refusal. It reports whether it saved.
+func (s *Server) saveSheet(w http.ResponseWriter, r *http.Request, ws workshop.Workshop, f *Form, sh keptSheet) (saved bool) {
 	rows, err := s.checkSheet(r, ws, sh.file.Text)
 	if err == nil {
 		var cur map[workshop.Key]workshop.Revision
 		if cur, err = s.currentAnswers(r, ws); err != nil {
-			s.sheets.untake(key)
 			s.fail(w, r, err)
-			return
+			return false
 		}
 		if meanwhile := answeredMeanwhile(rows, sh.follows, cur); len(meanwhile) > 0 {
 			// Nothing is saved: the preview again, as it now reads,
 			// under a new key. The old one is given back, and shows
 			// this again if sent again (its preview stays out of date).
-			s.sheets.untake(key)
 			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file, Meanwhile: meanwhile}
 			s.showPreview(w, r, http.StatusConflict, v, rows, cur)
-			return
+			return false
 		}
 		changes := answersheet.Against(rows, cur, ws.Round)
 		if meanwhile := reasoningMeanwhile(rows, sh.reading, changes, cur); len(meanwhile) > 0 {
-			s.sheets.untake(key)
 			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file, Meanwhile: meanwhile, MeanwhileReasoning: true}
 			s.showPreview(w, r, http.StatusConflict, v, rows, cur)
-			return
+			return false
 		}
 		if len(changes.Save) == 0 {
 			// Only a confirmation sent by hand comes here: a preview
 			// with nothing to save offers none. Nothing is saved; the
 			// preview says why.
-			s.sheets.untake(key)
 			v := sheetView{Workshop: ws, Form: newForm(nil), Channel: sh.channel, file: sh.file}
 			s.showPreview(w, r, http.StatusOK, v, rows, cur)
-			return
+			return false
 		}
 		if err = SaveSheet(r.Context(), s.store, ws, changes.Save, sh.channel, sh.file); err == nil {
 			// Each expert whose answers the sheet saved sees them on
@@ -559,20 +582,20 @@ func (s *Server) sheetConfirm(w http.ResponseWriter, r *http.Request) {
 			}
 			s.confirmOnce(w, r, workshopPath(ws.ID), sheetSavedConfirmation(len(changes.Unchanged)))
 			http.Redirect(w, r, sheetSavedPath(ws.ID), http.StatusSeeOther)
-			return
+			return true
 		}
 	}
 	// Refused, when read again or by the store: nothing was saved.
-	s.sheets.untake(key)
 	switch {
 	case s.notSaved(r, f, err):
 	case !isInputError(err):
 		s.fail(w, r, err)
-		return
+		return false
 	default:
 		f.Fail(err, nil)
 	}
 	s.renderSheet(w, r, f.refusedStatus(), sheetView{Workshop: ws, Form: f})
+	return false
 }
 
 func channelNames() []string {
