@@ -8,6 +8,7 @@ import (
 	"html"
 	"net/http"
 	"net/url"
+	"slices"
 	"strconv"
 	"strings"
 	"testing"
@@ -169,5 +170,40 @@ func TestSheetReadsTheQuestionAsParleyWritesIt(t *testing.T) {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || ie.Rule != answersheet.RuleQuestion || ie.Detail != "Q1 is retired" {
 		t.Errorf("%q: %v; want Q1 is retired", retired, err)
+	}
+}
+
+// The record's CSV writes a question in its column "question" as its
+// quantity alone. A sheet made from that download keeps the column and
+// its cells: each is refused by the cell's form, as a name with no
+// number is, and the refusal says whose name it is and what to write.
+func TestSheetSaysWhoseNameAQuestionWithoutNumberIs(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	res, body := h.get(exportPath(ws.ID, "csv"))
+	if res.StatusCode != http.StatusOK {
+		t.Fatalf("export.csv: %d", res.StatusCode)
+	}
+	rows, err := csv.NewReader(strings.NewReader(body)).ReadAll()
+	if err != nil || len(rows) < 2 {
+		t.Fatalf("export.csv: %d rows, %v", len(rows), err)
+	}
+	col := slices.Index(rows[0], "question")
+	idCol := slices.Index(rows[0], "question_id")
+	if col < 0 || idCol < 0 {
+		t.Fatalf("export.csv has no question or question_id column: %v", rows[0])
+	}
+	for _, row := range rows[1:] {
+		var q workshop.Question
+		for _, c := range qs {
+			if strconv.FormatInt(c.ID, 10) == row[idCol] {
+				q = c
+			}
+		}
+		_, err := readQuestionCell(t, h, ws, row[col])
+		var ie *elicit.InputError
+		want := "Q" + strconv.Itoa(q.Position) + "'s name without its number; write Q" + strconv.Itoa(q.Position) + " before it"
+		if !errors.As(err, &ie) || ie.Rule != answersheet.RuleQuestionForm || !strings.Contains(ie.Detail, want) {
+			t.Errorf("the record's question cell %q: %v; want the form's rule and %q", row[col], err, want)
+		}
 	}
 }

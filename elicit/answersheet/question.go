@@ -1,6 +1,7 @@
 package answersheet
 
 import (
+	"strconv"
 	"strings"
 
 	"github.com/parley-elicit/parley/elicit"
@@ -99,7 +100,7 @@ func (c questionCell) names(q workshop.Question) bool {
 func findQuestion(line int, s string, questions []workshop.Question) (workshop.Question, error) {
 	c, ok := readQuestionCell(s)
 	if !ok {
-		return workshop.Question{}, rowErr(line, "question", RuleQuestionForm, "%s", shownCell(s))
+		return workshop.Question{}, rowErr(line, "question", RuleQuestionForm, "%s%s", shownCell(s), withoutNumber(s, questions))
 	}
 	var found, retired *workshop.Question
 	for i, q := range questions {
@@ -126,6 +127,27 @@ func findQuestion(line int, s string, questions []workshop.Question) (workshop.Q
 			shownCell(s), found.Position, asks)
 	}
 	return *found, nil
+}
+
+// withoutNumber says which questions a cell names without a number, as
+// the record's CSV writes a question in its column "question" (the
+// quantity alone), so that the refusal says what to write instead; ""
+// when it names none.
+func withoutNumber(s string, questions []workshop.Question) string {
+	var named []string
+	for _, q := range questions {
+		if namesQuestion(strings.TrimSpace(s), q) {
+			named = append(named, "Q"+strconv.Itoa(q.Position))
+		}
+	}
+	switch len(named) {
+	case 0:
+		return ""
+	case 1:
+		return ": " + named[0] + "'s name without its number; write " + named[0] + " before it"
+	}
+	last := len(named) - 1
+	return ": the name of " + strings.Join(named[:last], ", ") + " and " + named[last] + " without a number; write the number of the one it answers before it"
 }
 
 // namesQuestion reports whether the text after a question cell's number

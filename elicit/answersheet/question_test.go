@@ -105,6 +105,18 @@ func TestQuestionCell(t *testing.T) {
 	if _, err := findQuestion(7, "Question 3", qs); err == nil || !strings.Contains(err.Error(), "Q3 is retired") {
 		t.Errorf("a retired question by Question 3: %v", err)
 	}
+	// A quantity alone, as the record's CSV writes a question in its
+	// column "question": refused, saying whose it is.
+	if _, err := findQuestion(7, "Wall loss share", qs); err == nil || !strings.Contains(err.Error(), `("Wall loss share": Q1's name without its number; write Q1 before it)`) {
+		t.Errorf("a quantity alone does not say whose it is: %v", err)
+	}
+	twice := append(qs, workshop.Question{ID: 45, Position: 13, Quantity: "wall loss share"})
+	if _, err := findQuestion(7, "wall loss share", twice); err == nil || !strings.Contains(err.Error(), "the name of Q1 and Q13 without a number") {
+		t.Errorf("a quantity two questions share does not name both: %v", err)
+	}
+	if _, err := findQuestion(7, "one", qs); err == nil || strings.Contains(err.Error(), "without") {
+		t.Errorf("a cell naming no question says it does: %v", err)
+	}
 	if _, err := findQuestion(7, "Q1 coating share", qs); err == nil || !strings.Contains(err.Error(), `Q1 asks for "wall loss share" (share of tanks)`) {
 		t.Errorf("a quantity out of step does not name the question's: %v", err)
 	}
