@@ -28,7 +28,7 @@ import (
 
 // Rules of the question cell.
 const (
-	RuleQuestionForm elicit.Rule = "must name the question by its number, 3, Q3 or Question 3 (3.0 as a spreadsheet writes it), which its quantity may follow as Parley writes it (Q3 wall loss share, Q3: wall loss share (share of tanks)), or by id:N"
+	RuleQuestionForm elicit.Rule = "must name the question by its number, 3, Q3 or Question 3 (3.0 as a spreadsheet writes it), which its name may follow as Parley writes it, or by id:N"
 	RuleQuantity     elicit.Rule = "names a quantity, units or wording other than the question's of that number"
 )
 
