@@ -66,6 +66,14 @@ func TestSheetUnchangedRowsInBrowser(t *testing.T) {
 		}
 		fits(t, fac, "preview", width)
 		oneLineTimes(t, fac, "preview", true)
+		// A fitted Beta reads whole: at 1366 px the rows' eight columns
+		// broke "Beta(3.682," from "63.3)".
+		if broken := eval[[]string](fac, "fitted Betas on one line", `Array.from(document.querySelectorAll('#sheet-rows td[data-label="Fitted Beta"]')).filter(e => {
+			const r = document.createRange(); r.selectNodeContents(e);
+			return new Set(Array.from(r.getClientRects()).filter(b => b.width > 0).map(b => Math.round(b.top))).size > 1;
+		}).map(e => e.textContent.trim())`); len(broken) > 0 {
+			t.Errorf("preview at %d px breaks a fitted Beta over lines: %q", width, broken)
+		}
 		if width < 600 {
 			if bare := eval[[]string](fac, "the unchanged rows' labels", `Array.from(document.querySelectorAll("#sheet-unchanged tbody td")).filter(c => c.getClientRects().length && !c.dataset.label).map(c => c.innerText.trim())`); len(bare) > 0 {
 				t.Errorf("preview at %d px: cells without a label: %q", width, bare)

@@ -430,7 +430,7 @@ func TestSheetUploadPreviewThenSave(t *testing.T) {
 	if n := len(g.revisions(t)); n != 0 {
 		t.Fatalf("the preview saved %d revisions", n)
 	}
-	previewed := regexp.MustCompile(`<td data-label="Fitted Beta">Beta\(([^)]*)\)</td>`).FindAllStringSubmatch(body, -1)
+	previewed := regexp.MustCompile(`<td data-label="Fitted Beta"><span class="nowrap">Beta\(([^)]*)\)</span></td>`).FindAllStringSubmatch(body, -1)
 	key := regexp.MustCompile(`name="key" value="([0-9a-f]+)"`).FindStringSubmatch(body)
 	if len(previewed) != 5 || key == nil {
 		t.Fatalf("preview rows %d, key %v", len(previewed), key)
