@@ -325,11 +325,11 @@ func reasonsOverlap(p *person) []string {
 // demo's panel of four does, with no link to the reasons display.
 func reasonsBeside(t *testing.T, p *person, screen, want string) {
 	t.Helper()
-	listed := eval[[]string](p, "the reasons beside the picture", `Array.from(document.querySelectorAll(".room-side .room-reasons li")).map(li => li.innerText)`)
+	listed := eval[[]string](p, "the reasons beside the picture", `Array.from(document.querySelectorAll(".room-side .room-reasons li")).filter(li => li.getClientRects().length > 0).map(li => li.innerText)`)
 	if !strings.Contains(strings.Join(listed, "\n"), want) {
 		t.Errorf("%s: the room lists %q beside the picture, without %q", screen, listed, want)
 	}
-	if p.count("#room-reasons-link") != 0 {
+	if eval[bool](p, "the link to the reasons display", `(e => !!e && e.getClientRects().length > 0)(document.querySelector("#room-reasons-link"))`) {
 		t.Errorf("%s: the room sends its %d reasons to the reasons display", screen, len(listed))
 	}
 	sideEnds(t, p, screen)
@@ -374,7 +374,7 @@ func TestFewReasonsStayBesideThePicture(t *testing.T) {
 		if lines := eval[int](fac, "the wording's lines", `Math.round(document.querySelector(".room-question").getBoundingClientRect().height / parseFloat(getComputedStyle(document.querySelector(".room-question")).lineHeight))`); w == 1280 && lines != 2 {
 			t.Errorf("%s: the wording takes %d lines, want 2 (the side's room is set for two)", screen, lines)
 		}
-		if n := fac.count(".room-side .room-reasons li"); n != 4 {
+		if n := eval[int](fac, "the reasons shown beside the picture", `Array.from(document.querySelectorAll(".room-side .room-reasons li")).filter(li => li.getClientRects().length > 0).length`); n != 4 {
 			t.Errorf("%s: %d of the 4 reasons beside the picture", screen, n)
 		}
 		reasonsBeside(t, fac, screen, "Invented: site 1's returns.")
@@ -534,4 +534,119 @@ func wrappedLines(lead float64, text string, wide float64) int {
 		x += w
 	}
 	return lines
+}
+
+// sideReasons is the room's side as room.js leaves it: the reasons
+// listed beside the picture, or the link to their display.
+type sideReasons struct {
+	Listed   int  `json:"listed"`   // reasons shown in the list
+	LinkShow bool `json:"linkShow"` // the link to the reasons display shown
+	// Whole: every shown reason's lines inside the list, the side and
+	// the screen, none over another or over the median strip.
+	Whole  bool    `json:"whole"`
+	Scroll float64 `json:"scroll"` // what the list holds past its own height
+}
+
+const readSideReasons = `(() => {
+	const side = document.querySelector(".room-side"), sb = side.getBoundingClientRect();
+	const shown = e => !!e && e.getClientRects().length > 0;
+	const list = side.querySelector(".room-reasons");
+	const items = shown(list) ? Array.from(list.querySelectorAll("li")) : [];
+	const strip = side.querySelector(".chart-medians").getBoundingClientRect();
+	let whole = true, prev = null;
+	for (const li of items) {
+		const r = li.getBoundingClientRect(), lb = list.getBoundingClientRect();
+		if (r.top < lb.top - 1 || r.bottom > lb.bottom + 1 || r.bottom > sb.bottom + 1 || r.bottom > window.innerHeight || r.top < strip.bottom - 1) whole = false;
+		if (prev && r.top < prev.bottom - 1) whole = false;
+		prev = r;
+	}
+	return {listed: items.length, linkShow: shown(side.querySelector(".room-reasons-more")), whole: whole,
+		scroll: list ? list.scrollHeight - list.clientHeight : 0};
+})()`
+
+// TestReasonsBesideFollowTheScreen: the server lays the side out for the
+// smallest projector, where four reasons of a line at 1920 px take two
+// lines each and went to the reasons display behind "4 reasons: show
+// them" on every screen, though a 1920×1080 projector had room for them
+// beside the picture. room.js now shows them beside the picture where
+// they fit the screen it is on, and the link where they do not: panels
+// of 4 and 12, reasons of a line and of several, at 1024×768, 1366×768
+// and 1920×1080; either every reason whole beside the picture or the
+// link, never both, nothing cut, scrolled or over anything, the page not
+// scrolling. The four short reasons stand beside the picture at 1920×1080,
+// and still do once a live change (a reason withheld in another tab)
+// brings the side anew from the server, which chose the link.
+func TestReasonsBesideFollowTheScreen(t *testing.T) {
+	s := startSite(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	shots := newScreenshots(t)
+	const short = "Invented: site %d's returns ran high in the hot months."
+	const long = "Invented: at site %d the seals run hot in summer, and the returns of the older seal rose by half in the hot months of the last three years; the new rubber is rated for heat only in the maker's tests."
+	for _, n := range []int{4, 12} {
+		for _, why := range []string{short, long} {
+			ws, q := largePanelWith(t, s, n, func(q *workshop.Question) {
+				q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
+			})
+			ctx := context.Background()
+			latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+			if err != nil || len(latest) != n {
+				t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+			}
+			for i, rv := range latest {
+				rv.ID, rv.Reason = 0, fmt.Sprintf(why, i+1)
+				if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+					t.Fatal(err)
+				}
+			}
+			if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+				t.Fatal(err)
+			}
+			room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+			kind := map[string]string{short: "short", long: "long"}[why]
+			for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+				w, h := sz[0], sz[1]
+				screen := fmt.Sprintf("%d %s reasons, %d×%d", n, kind, w, h)
+				fac.viewport(w, h, false)
+				if st := fac.open(room); st != http.StatusOK {
+					t.Fatalf("%s: room view: %d", screen, st)
+				}
+				if err := fac.poll(stepTimeout, `document.fonts.status === "loaded"`); err != nil {
+					t.Fatal(err)
+				}
+				got := eval[sideReasons](fac, "the side's reasons", readSideReasons)
+				t.Logf("%s: %d listed, link shown %v", screen, got.Listed, got.LinkShow)
+				if (got.Listed == 0) == !got.LinkShow || (got.Listed != 0 && got.Listed != n) {
+					t.Errorf("%s: %d of %d reasons listed beside the picture, the link shown %v: want all of them or the link", screen, got.Listed, n, got.LinkShow)
+				}
+				if !got.Whole || got.Scroll > 1 {
+					t.Errorf("%s: a reason beside the picture is cut, over another or off the screen (the list scrolls %.0f px)", screen, got.Scroll)
+				}
+				if n == 4 && why == short && w == 1920 && got.Listed != 4 {
+					t.Errorf("%s: the four reasons of a line go behind the link, though the side has room for them", screen)
+				}
+				sideEnds(t, fac, screen)
+				fitsScreen(t, fac, int(w), int(h))
+				shots.take(fac, fmt.Sprintf("room-reasons-follow-%d-%s-%d", n, kind, w))
+			}
+			if n != 4 || why != short {
+				continue
+			}
+			// A live change brings the side anew, as the server lays it out.
+			revs, err := s.DB.Revisions(ctx, ws.ID)
+			if err != nil {
+				t.Fatal(err)
+			}
+			last := revs[len(revs)-1]
+			eval[bool](fac, "forget the last refresh", `document.documentElement.removeAttribute("data-live-updated"), true`)
+			fac.postFromPage(fmt.Sprintf("/w/%d/q/%d/reasons/%d", ws.ID, q.ID, last.ID), "action=withhold&withhold_reason=Names+a+site+%28invented%29.")
+			if err := fac.poll(liveWithin+3*time.Second, `document.documentElement.hasAttribute("data-live-updated")`); err != nil {
+				t.Fatal(err)
+			}
+			if got := eval[sideReasons](fac, "the side's reasons", readSideReasons); got.Listed != 3 || got.LinkShow {
+				t.Errorf("after a live change at 1920×1080: %d reasons listed, the link shown %v; want the 3 left beside the picture", got.Listed, got.LinkShow)
+			}
+		}
+	}
 }

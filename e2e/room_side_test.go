@@ -112,7 +112,7 @@ func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
 				const side = document.querySelector(".room-side"), sb = side.getBoundingClientRect();
 				const foot = Math.min(sb.bottom, window.innerHeight);
 				const inside = e => { const r = e.getBoundingClientRect(); return r.height > 0 && r.top >= sb.top - 1 && r.bottom <= foot + 1; };
-				const link = side.querySelector(".room-reasons-more, .room-reasons");
+				const link = Array.from(side.querySelectorAll(".room-reasons-more, .room-reasons")).find(e => e.getClientRects().length > 0);
 				const svg = Array.from(side.querySelectorAll("svg.chart-strip")).find(e => e.getBoundingClientRect().height > 0);
 				const labels = Array.from(svg.querySelectorAll(".median-label")).map(e => { const r = e.getBoundingClientRect(); return [r.left, r.top, r.right, r.bottom]; });
 				const shown = sel => { const e = side.querySelector(sel); return !!e && e.getBoundingClientRect().height > 0; };

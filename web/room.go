@@ -63,7 +63,12 @@ type roomView struct {
 	// one page of them, Heading says which, and Back returns to the
 	// picture; Prev and Next are then the pages' neighbours, or the
 	// picture and the next question's room at the ends.
+	// The server's choice (Beside) is laid out for the smallest
+	// projector; where the reasons may fit a larger screen's side
+	// (Listed), the page carries both the list and the link, and
+	// room.js, which knows the screen, shows the one that fits.
 	Beside      bool
+	Listed      bool
 	ReasonsLink string
 	ShowReasons bool
 	Page        reasonsScreen
@@ -441,7 +446,8 @@ func layOutReasons(v *roomView, room string, show bool, page int) {
 	wording := v.wording()
 	if !show {
 		v.Beside = reasonsBeside(v.Reasons, members, wording)
-		if !v.Beside {
+		v.Listed = len(v.Reasons) > 0 && (v.Beside || reasonsMayBeside(v.Reasons))
+		if len(v.Reasons) > 0 {
 			v.ReasonsLink = reasonsPath(room, 1)
 		}
 		return

@@ -183,6 +183,25 @@ func reasonsBeside(reasons []feedbackReason, members int, wording string) bool {
 	return lines <= room
 }
 
+// sideLinesMost bounds the reasons a page carries for room.js to bring
+// beside the picture on a screen larger than the smallest projector: as
+// many lines of the side's width as a 1920×1200 screen's side holds under
+// a strip of up to four experts, about a dozen, and more than that of a
+// larger panel's. Reasons longer than that go to the reasons display on
+// every screen, and the page does not carry them twice.
+const sideLinesMost = 12
+
+// reasonsMayBeside reports whether the reasons are short enough that a
+// screen larger than the smallest projector may hold them beside the
+// picture (room.js measures whether it does).
+func reasonsMayBeside(reasons []feedbackReason) bool {
+	lines := 0
+	for _, r := range reasons {
+		lines += reasonLines(r, sideLineEm)
+	}
+	return len(reasons) > 0 && lines <= sideLinesMost
+}
+
 // reasonPiece is a reason, or the part of one that fits a page, on the
 // reasons display.
 type reasonPiece struct {
@@ -451,4 +470,17 @@ func reasonsRange(p reasonsScreen, total int) string {
 		return "Reason " + strconv.Itoa(p.First) + of
 	}
 	return "Reasons " + strconv.Itoa(p.First) + "–" + strconv.Itoa(p.Last) + of
+}
+
+// besideWord is the side column's data-beside: where the server lays
+// the reasons out for the smallest projector, "list" beside the picture
+// or "link" to the reasons display; none without reasons.
+func (v roomView) besideWord() string {
+	switch {
+	case len(v.Reasons) == 0:
+		return ""
+	case v.Beside:
+		return "list"
+	}
+	return "link"
 }

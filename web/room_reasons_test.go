@@ -261,8 +261,10 @@ func TestDemoRoomKeepsItsReasonsBeside(t *testing.T) {
 	if !regexp.MustCompile(`<ul class="room-reasons"><li><strong>Expert [A-Z]</strong>: ` + regexp.QuoteMeta(plain)).MatchString(body) {
 		t.Error("the demo's room does not list its reason beside the picture")
 	}
-	if strings.Contains(body, "show=reasons") {
-		t.Error("the demo's room links to the reasons display")
+	// The link is carried for room.js, hidden: the list is the server's
+	// choice, and a page without script shows it alone.
+	if !strings.Contains(body, `data-beside="list"`) || !strings.Contains(body, `<p class="room-reasons-more" hidden>`) || strings.Contains(body, `<div class="room-reasons-beside" hidden>`) {
+		t.Error("the demo's room shows its link to the reasons display, or hides its reason")
 	}
 }
 
@@ -287,5 +289,52 @@ func TestLongWordingIsSetSmaller(t *testing.T) {
 		if h := wordingHeight(w); h > wordingMaxLines*title+1e-9 {
 			t.Errorf("%d characters: %.2fvw high, more than three title lines (%.2fvw)", len(w), h, wordingMaxLines*title)
 		}
+	}
+}
+
+// TestRoomCarriesReasonsALargerScreenMayHold: the server lays the side
+// out for the smallest projector, and four reasons of about two lines
+// there go to the reasons display; a larger screen's side holds them
+// (room.js decides, on the screen), so the page carries the list, hidden,
+// beside the link, which a page without script shows. Twenty such
+// reasons are more than any projector's side holds: the page carries
+// only the link.
+func TestRoomCarriesReasonsALargerScreenMayHold(t *testing.T) {
+	const why = "Invented: site %d's returns of the older seal ran high in the hot months."
+	panel := func(n int) roomView {
+		v := roomView{Question: workshop.Question{Position: 1, Wording: "What share of the new seals will fail in their first year? (Invented.)"}}
+		for i := range n {
+			v.Reasons = append(v.Reasons, feedbackReason{Label: "Expert " + string(rune('A'+i)), Reason: fmt.Sprintf(why, i+1)})
+		}
+		layOutReasons(&v, "/w/1/q/1/room", false, 0)
+		return v
+	}
+	render := func(v roomView) string {
+		var b strings.Builder
+		if err := roomPage(v).Render(context.Background(), &b); err != nil {
+			t.Fatal(err)
+		}
+		return b.String()
+	}
+	four := panel(4)
+	if four.Beside || !four.Listed {
+		t.Fatalf("four reasons of two lines: beside on the smallest projector %v, carried for a larger screen %v; want false, true", four.Beside, four.Listed)
+	}
+	body := render(four)
+	for _, want := range []string{`data-beside="link"`, `<p class="room-reasons-more">4 reasons: <a id="room-reasons-link"`, `<div class="room-reasons-beside" hidden><h2>Reasons</h2>`, html.EscapeString(fmt.Sprintf(why, 4))} {
+		if !strings.Contains(body, want) {
+			t.Errorf("four reasons: the room's side lacks %q", want)
+		}
+	}
+	twenty := panel(20)
+	if twenty.Beside || twenty.Listed {
+		t.Errorf("twenty reasons of two lines: beside %v, carried %v; want neither", twenty.Beside, twenty.Listed)
+	}
+	if body := render(twenty); strings.Contains(body, "room-reasons-beside") || !strings.Contains(body, "20 reasons: ") {
+		t.Error("twenty reasons: the page carries the list, or not the link")
+	}
+	// No reasons: no heading over an empty list, and no link.
+	if body := render(panel(0)); strings.Contains(body, "<h2>Reasons</h2>") || strings.Contains(body, "room-reasons") {
+		t.Error("no reasons: the room's side carries a list or a link to them")
 	}
 }

@@ -20,3 +20,47 @@
     }
   });
 })();
+
+// The reasons beside the picture. The server lays the side column out
+// for the smallest projector (data-beside) and, where the reasons may fit
+// a larger screen's side, sends both the list and the link to the reasons
+// display: here, on a projector (the room's layout held to the screen's
+// height), the list is shown where it fits the screen the room is on and
+// the link where it does not. It fits when nothing scrolls (the page, the
+// side column, the list) and the median strip keeps its size (it shrinks
+// to what the column leaves). Without script the server's choice stands;
+// on a phone the page scrolls, and it stands too. Laid out again when the
+// screen changes, when the room's notice above the foot bar comes or goes,
+// once the fonts are in, and after a live change brings the part anew.
+(function () {
+  "use strict";
+  var projector = window.matchMedia("(min-width: 60.01rem)");
+  function place() {
+    var side = document.querySelector(".room-side[data-beside]");
+    var list = side && side.querySelector(".room-reasons-beside");
+    var more = side && side.querySelector(".room-reasons-more");
+    if (!list || !more) { return; }
+    var show = function (beside) { list.hidden = !beside; more.hidden = beside; };
+    if (!projector.matches) {
+      show(side.getAttribute("data-beside") === "list");
+      return;
+    }
+    show(false);
+    var strip = side.querySelector(".chart-medians");
+    var stripHeight = strip ? strip.getBoundingClientRect().height : 0;
+    show(true);
+    var ul = list.querySelector("ul");
+    var page = document.scrollingElement || document.documentElement;
+    var fits = side.scrollHeight <= side.clientHeight + 1 &&
+      ul.scrollHeight <= ul.clientHeight + 1 &&
+      page.scrollHeight <= window.innerHeight + 1 &&
+      (!strip || strip.getBoundingClientRect().height >= stripHeight - 1);
+    if (!fits) { show(false); }
+  }
+  place();
+  window.addEventListener("resize", place);
+  document.addEventListener("parley:live", place);
+  if (document.fonts && document.fonts.ready) { document.fonts.ready.then(place); }
+  var notice = document.querySelector(".room-live-status");
+  if (notice && window.ResizeObserver) { new ResizeObserver(place).observe(notice); }
+})();
