@@ -91,19 +91,16 @@ func TestPriorDisplayBackLinkReadsFromTheRoom(t *testing.T) {
 
 // TestRoomFirstLineSaysThePoolChanged: where the pool a prior was agreed
 // from has changed since, the header's link to the prior says so in a few
-// more words, and the line stays one line on a projector with a long
-// title, the link whole on the screen.
+// more words, and the line stays one line on a projector, the link whole
+// on the screen. The demo's own title stays whole beside them at every
+// projector size: "a prior has been agreed; the pool has changed since:"
+// cut it short at 1024×768 ("…the HX-40 i…"). A long title is cut short.
 func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
 	shots := newScreenshots(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
-	w := d.w
-	w.Title = strings.Repeat("Invented long workshop title of the cooperative's inverter panel ", 3)[:190]
-	if err := site.DB.UpdateWorkshop(context.Background(), w); err != nil {
-		t.Fatal(err)
-	}
 	qp := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	fac.open(d.url + "/")
 	fac.postFromPage(qp+"/agree", "source=pool&confirm_open=on&rationale=The+pool+as+it+stands+%28invented%29.")
@@ -111,7 +108,23 @@ func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	// Round 1 closed: the room shows the panel under the header.
 	fac.postFromPage(d.url+"/round", "action=close")
 	fac.open(qp + "/room")
-	const said = "· a prior has been agreed; the pool has changed since: show it"
+	const said = "· agreed prior; its pool has changed since: show it"
+	for _, s := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+		fac.viewport(s[0], s[1], false)
+		got := eval[roomWhere](fac, "the first line", readRoomWhere)
+		line := eval[string](fac, "the first line's words", `document.querySelector(".room-where").textContent.replace(/\s+/g, " ").trim()`)
+		if got.Lines > 1.2 || !got.LinkIn || got.Cut || got.Title != d.w.Title || !strings.HasSuffix(line, said) {
+			t.Errorf("%d×%d: the first line takes %.2f lines, the prior's link on the screen %v, the demo's title cut short %v; it reads %q, want it to end %q",
+				s[0], s[1], got.Lines, got.LinkIn, got.Cut, line, said)
+		}
+		shots.take(fac, "room-pool-changed-demo-"+strconv.FormatInt(s[0], 10))
+	}
+	w := d.w
+	w.Title = strings.Repeat("Invented long workshop title of the cooperative's inverter panel ", 3)[:190]
+	if err := site.DB.UpdateWorkshop(context.Background(), w); err != nil {
+		t.Fatal(err)
+	}
+	fac.open(qp + "/room")
 	for _, s := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
 		fac.viewport(s[0], s[1], false)
 		got := eval[roomWhere](fac, "the first line", readRoomWhere)
@@ -124,6 +137,6 @@ func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 		shots.take(fac, "room-pool-changed-"+strconv.FormatInt(s[0], 10))
 	}
 	fac.viewport(phoneWidth, phoneHeight, true)
-	fac.sees("the first line on a phone", "the pool has changed since")
+	fac.sees("the first line on a phone", "its pool has changed since")
 	shots.take(fac, "room-pool-changed-390")
 }

@@ -143,7 +143,7 @@ func TestRoomHeaderSaysThePoolChanged(t *testing.T) {
 		_, shown := h.get(roomPath(ws.ID, q.ID) + "?show=prior")
 		return line, strings.Contains(shown, "The pool has changed since this prior was agreed")
 	}
-	const plain, changed = "· a prior has been agreed: show it", "· a prior has been agreed; the pool has changed since: show it"
+	const plain, changed = "· a prior has been agreed: show it", "· agreed prior; its pool has changed since: show it"
 	check := func(when string, wantChanged bool) {
 		t.Helper()
 		line, display := header()
