@@ -1,6 +1,7 @@
 package e2e
 
 import (
+	"context"
 	"fmt"
 	"net/http"
 	"regexp"
@@ -493,6 +494,52 @@ func TestRoomFootBarOnAPhone(t *testing.T) {
 			if l.Lines != 1 || l.Height < 44 {
 				t.Errorf("%d px: the link %q takes %d lines and is %.0f px tall; want one line, at least 44 px", w, l.Text, l.Lines, l.Height)
 			}
+		}
+	}
+}
+
+// TestRoomPictureStandsUnderItsHeaderOnAPhone: on a phone the room's
+// picture stood under a blank band of some 40 px, the room its drawing
+// keeps above the plots for a revealed true value's label, which neither
+// the demo's question nor a large panel's (20 experts, chart.Spread) has.
+// Now the picture's first mark (the top tick label) stands within 16 px
+// of the header's foot (its margin and a few px of the drawing's own), at
+// 360 and 390 px, every label inside its picture.
+func TestRoomPictureStandsUnderItsHeaderOnAPhone(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+	fac.postFromPage(d.url+"/round", "action=close")
+	ws, q := largePanelWith(t, site, 20, nil)
+	if err := site.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	for _, room := range []struct{ name, shot, url string }{
+		{"the demo's room", "demo", d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"},
+		{"a large panel's room", "large", site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"},
+	} {
+		fac.open(room.url)
+		for _, w := range []int64{360, phoneWidth} {
+			fac.viewport(w, phoneHeight, true)
+			band := eval[float64](fac, "the band above the picture", `(() => {
+				const head = document.querySelector(".room-head").getBoundingClientRect();
+				const svg = Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).find(e => e.getClientRects().length > 0);
+				let top = Infinity;
+				for (const e of svg.querySelectorAll("text, line, path, rect")) {
+					if (e.closest("title, desc")) continue;
+					const r = e.getBoundingClientRect();
+					if (r.width > 0 || r.height > 0) top = Math.min(top, r.top);
+				}
+				return top - head.bottom;
+			})()`)
+			if band > 16 {
+				t.Errorf("%s at %d px: the picture starts %.0f px under its header", room.name, w, band)
+			}
+			fits(t, fac, room.name, w)
+			shots.take(fac, fmt.Sprintf("room-phone-top-%s-%d", room.shot, w))
 		}
 	}
 }

@@ -225,6 +225,23 @@ func PanelNotes(v PanelView) []string {
 	return newTwinIn(wideLayout, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
 }
 
+// roomTopMargin is what the room's compact drawing (a phone's) keeps
+// above its plots where no true value's label stands there: the top tick
+// label's upper half and a little air. The layout's 44 units above the
+// plots keep room for that label, and the room's picture stood on a
+// phone under a blank band of some 40 px.
+const roomTopMargin = 12
+
+// top is where d's picture starts: roomTopMargin above its plots for the
+// room's compact drawing with no true value's label above them, else at
+// 0. A large panel's room picture (SpreadView.Room) starts there too.
+func (d panelDrawing) top(room bool) float64 {
+	if room && d.Twin.Layout.Name == compactLayout.Name && d.Truth == nil {
+		return d.Twin.Layout.Top - roomTopMargin
+	}
+	return 0
+}
+
 func newPanelModel(v PanelView) panelModel {
 	m := panelModel{ID: v.ID, Units: v.Units}
 	if m.ID == "" {
@@ -272,6 +289,9 @@ func newPanelModel(v PanelView) panelModel {
 		}
 		if v.Marked {
 			d.Marks = newMarks(d.Twin, marks, slots)
+		}
+		if y := d.top(v.Room); y > 0 {
+			d.Twin.ViewBox = "0 " + coord(y) + " " + coord(lay.width()) + " " + coord(d.Twin.Height-y)
 		}
 		m.Drawings = append(m.Drawings, d)
 	}

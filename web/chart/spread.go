@@ -222,7 +222,8 @@ func newSpreadModel(v SpreadView) spreadModel {
 		for i, d := range m.Panel.Drawings {
 			j := spreadJoin{Curves: d, Twin: d.Twin, Strip: m.Strips[i], Shift: coord(d.Twin.Height)}
 			j.Twin.Height += j.Strip.Height
-			j.Twin.ViewBox = "0 0 " + coord(j.Twin.Layout.width()) + " " + coord(j.Twin.Height)
+			y := d.top(true)
+			j.Twin.ViewBox = "0 " + coord(y) + " " + coord(j.Twin.Layout.width()) + " " + coord(j.Twin.Height-y)
 			m.Joined = append(m.Joined, j)
 		}
 	}
