@@ -545,6 +545,7 @@ type sideReasons struct {
 	// the screen, none over another or over the median strip.
 	Whole  bool    `json:"whole"`
 	Scroll float64 `json:"scroll"` // what the list holds past its own height
+	Strip  float64 `json:"strip"`  // the median strip's height, which gives way to what the side holds
 }
 
 const readSideReasons = `(() => {
@@ -561,7 +562,7 @@ const readSideReasons = `(() => {
 		prev = r;
 	}
 	return {listed: items.length, linkShow: shown(side.querySelector(".room-reasons-more")), whole: whole,
-		scroll: list ? list.scrollHeight - list.clientHeight : 0};
+		scroll: list ? list.scrollHeight - list.clientHeight : 0, strip: strip.height};
 })()`
 
 // TestReasonsBesideFollowTheScreen: the server lays the side out for the
@@ -582,10 +583,11 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 	fac := br.person("facilitator")
 	signIn(t, s, fac)
 	shots := newScreenshots(t)
+	const brief = "Invented: site %d's returns."
 	const short = "Invented: site %d's returns ran high in the hot months."
 	const long = "Invented: at site %d the seals run hot in summer, and the returns of the older seal rose by half in the hot months of the last three years; the new rubber is rated for heat only in the maker's tests."
 	for _, n := range []int{4, 12} {
-		for _, why := range []string{short, long} {
+		for _, why := range []string{brief, short, long} {
 			ws, q := largePanelWith(t, s, n, func(q *workshop.Question) {
 				q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
 			})
@@ -604,7 +606,7 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 				t.Fatal(err)
 			}
 			room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
-			kind := map[string]string{short: "short", long: "long"}[why]
+			kind := map[string]string{brief: "brief", short: "short", long: "long"}[why]
 			for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
 				w, h := sz[0], sz[1]
 				screen := fmt.Sprintf("%d %s reasons, %d×%d", n, kind, w, h)
@@ -629,10 +631,32 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 				sideEnds(t, fac, screen)
 				fitsScreen(t, fac, int(w), int(h))
 				shots.take(fac, fmt.Sprintf("room-reasons-follow-%d-%s-%d", n, kind, w))
+				// The room's notice that it no longer follows the
+				// workshop, put up as live.js does, takes two lines above
+				// the foot bar: the side is laid out again.
+				eval[bool](fac, "the room's notice", `(() => {
+					const note = document.createElement("strong");
+					note.id = "live-stopped";
+					note.textContent = document.querySelector(".room-live-status").getAttribute("data-live-stopped").replace("{since}", "09:12");
+					document.querySelector(".room-live-status").appendChild(note);
+					return true;
+				})()`)
+				// Two frames: the notice's layout, and what room.js did then.
+				evalWithin[bool](fac, "two frames", `new Promise(r => requestAnimationFrame(() => requestAnimationFrame(() => r(true))))`, stepTimeout)
+				noted := eval[sideReasons](fac, "the side's reasons under the notice", readSideReasons)
+				if (noted.Listed == 0) == !noted.LinkShow || !noted.Whole || noted.Scroll > 1 || noted.Strip < got.Strip-1 {
+					t.Errorf("%s, the room's notice up: %d of %d reasons listed, the link shown %v, whole %v, the list scrolls %.0f px, the median strip %.0f px tall (%.0f without the notice)",
+						screen, noted.Listed, n, noted.LinkShow, noted.Whole, noted.Scroll, noted.Strip, got.Strip)
+				}
+				sideEnds(t, fac, screen+", the room's notice up")
+				fitsScreen(t, fac, int(w), int(h))
+				shots.take(fac, fmt.Sprintf("room-reasons-follow-%d-%s-%d-notice", n, kind, w))
+				eval[bool](fac, "the notice taken away", `document.getElementById("live-stopped").remove(), true`)
 			}
 			if n != 4 || why != short {
 				continue
 			}
+			fac.viewport(1920, 1080, false)
 			// A live change brings the side anew, as the server lays it out.
 			revs, err := s.DB.Revisions(ctx, ws.ID)
 			if err != nil {
