@@ -227,3 +227,80 @@ func TestExpertPageFollowsItsQuestionWithdrawn(t *testing.T) {
 	}
 	ex.noScriptErrors("the question withdrawn")
 }
+
+// An expert's question page, open when their link was ended, kept the
+// draft (by design: it can be copied to the new link) but also their
+// saved history, the note that their answer was saved, the round's line
+// about their answer and the label asking why they revised: whoever held
+// the phone next learned whose answers these were. Once the link ends,
+// only the draft and the words saying the link no longer works stay.
+func TestExpertPageForgetsTheExpertOnceItsLinkEnds(t *testing.T) {
+	d, fac, ex := followingExpert(t, 0, true)
+	shots := newScreenshots(t)
+	const boxes = `Array.from(document.querySelectorAll("form.answer-form input[type=text]")).map(i => i.name)`
+	names := eval[[]string](ex, "the value boxes", boxes)
+	if len(names) == 0 {
+		t.Fatal("the question's page has no value boxes")
+	}
+	// A saved answer, so the page has a history naming it.
+	for i, n := range names {
+		ex.fill("form.answer-form", n, fmt.Sprintf("0.%d05", i+1))
+	}
+	ex.fill("form.answer-form", "reason", "Saved reasoning, to be forgotten (invented).")
+	ex.do("save", chromedp.Click(chromedp.CSS("#save-live button")))
+	ex.waitFor("the answer saved", `!!document.querySelector("#saved") && document.querySelectorAll("#history-live tbody tr").length > 0`)
+	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+
+	// A draft typed over it, not saved.
+	draft := map[string]string{}
+	for i, n := range names {
+		draft[n] = fmt.Sprintf("0.%d17", i+1)
+		ex.fill("form.answer-form", n, draft[n])
+	}
+	draft["reason"] = "A draft, typed and not saved (invented)."
+	ex.fill("form.answer-form", "reason", draft["reason"])
+	// The fit shown is the draft's, as the expert typed it.
+	ex.waitFor("the draft's fit", `document.querySelector("#preview").innerText.includes("Read as 0.117")`)
+
+	var expert int64
+	for _, e := range d.experts {
+		if e.Name == d.links[0].Name {
+			expert = e.ID
+		}
+	}
+	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
+	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
+		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
+	const typed = `(() => { const m = {}; document.querySelectorAll("form.answer-form input[type=text], form.answer-form textarea").forEach(f => { m[f.name] = f.value; }); return m; })()`
+	got := eval[map[string]string](ex, "the draft", typed)
+	for n, v := range draft {
+		if got[n] != v {
+			t.Errorf("the link ended: the draft's %s reads %q, typed %q", n, got[n], v)
+		}
+	}
+	// Nothing of whose link it was, on the screen or anywhere in the page:
+	// not the name, not the saved answer or its reasoning, not that one
+	// was saved, not the question's history or the round's line about it.
+	page := eval[string](ex, "the page", `document.documentElement.outerHTML`)
+	for _, what := range []string{
+		d.links[0].Name,
+		"Saved reasoning, to be forgotten",
+		"Your history on this question",
+		"Saved. Your answer is recorded",
+		"Why you revised",
+		"0.105",
+		"Round 1 is open",
+		"What the other experts said",
+		"your questions",
+	} {
+		if i := strings.Index(page, what); i >= 0 {
+			t.Errorf("the link ended: the page still holds %q: …%s…", what, page[max(0, i-300):min(len(page), i+100)])
+		}
+	}
+	shots.take(ex, "expert-question-gone-1366")
+	ex.viewport(phoneWidth, phoneHeight, true)
+	shots.take(ex, "expert-question-gone-390")
+	ex.noScriptErrors("the link ended")
+}

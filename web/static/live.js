@@ -28,6 +28,8 @@
   var timer = null;
   var busy = false;
   var again = false;
+  // each calls fn on every element of the page that sel matches.
+  function each(sel, fn) { Array.prototype.forEach.call(document.querySelectorAll(sel), fn); }
 
   // atWork says the facilitator is at work in a form inside el: a refused
   // form shown in it, the focus on one of its fields or buttons, or a
@@ -206,7 +208,7 @@
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         var place = placeOnScreen();
         held = [];
-        Array.prototype.forEach.call(document.querySelectorAll("[data-live]"), function (el) {
+        each("[data-live]", function (el) {
           var fresh = el.id && doc.getElementById(el.id);
           if (fresh && offers(el, fresh)) {
             offered[el.id] = fresh;
@@ -275,9 +277,8 @@
   // goneNow says, on an expert's page, that it can no longer save: the
   // link was ended or replaced (404), or the question withdrawn (410, in
   // the words of the page the server answered). Every place marked
-  // data-live-gone-slot says so, what is marked data-live-gone-hide is
-  // removed, the save button is disabled and says why, and the page stops
-  // following: nothing typed is touched.
+  // data-live-gone-slot says so, the save button is disabled and says
+  // why, and the page stops following: nothing typed is touched.
   function goneNow(status, html) {
     gone = true;
     var words = goneWords;
@@ -292,21 +293,24 @@
       if (parts.length) { words = parts.join(" ") + " Anything you typed stays here."; }
       button = src.getAttribute("data-live-withdrawn-button") || button;
     }
-    Array.prototype.forEach.call(document.querySelectorAll("[data-live-gone-slot]"), function (slot) {
+    each("[data-live-gone-slot]", function (slot) {
       var p = document.createElement("p");
       p.className = "banner banner-gone";
       p.setAttribute("role", "alert");
       p.textContent = words;
       slot.replaceChildren(p);
     });
-    // What names the expert or their answers, or leads only to the
-    // link's refusal (the home's greeting and list of questions), is
-    // taken off the page, not merely hidden: whoever holds the phone
-    // next should find nothing of whose link it was.
-    Array.prototype.forEach.call(document.querySelectorAll("[data-live-gone-hide]"), function (el) {
-      el.remove();
-    });
-    Array.prototype.forEach.call(document.querySelectorAll("[data-live-save] button"), function (b) {
+    // A link ended: the phone's next holder finds the draft and nothing
+    // of whose link it was (not even the saved answer, each field's
+    // default). A question withdrawn (410) is still its owner's page.
+    if (status === 404) {
+      each("[data-live-gone-hide]", function (el) { el.remove(); });
+      each("[data-live-gone-words]", function (el) { el.textContent = el.getAttribute("data-live-gone-words"); });
+      each("input, textarea", function (f) {
+        if (f.type === "radio") { f.defaultChecked = f.checked; } else { f.defaultValue = f.value; }
+      });
+    }
+    each("[data-live-save] button", function (b) {
       b.disabled = true;
       b.removeAttribute("formaction");
       if (button) { b.textContent = button; }
