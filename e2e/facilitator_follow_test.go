@@ -217,3 +217,78 @@ func TestCalibrationPageFollowsTheWorkshop(t *testing.T) {
 	fac.viewport(1366, 900, false)
 	fac.noScriptErrors("the calibration page followed")
 }
+
+// The calibration page's weights form stands in its not-ready layout
+// (after the calibration questions) or its ready one (after the scores).
+// A page that became ready while the facilitator typed in the not-ready
+// form held that form and put in the ready one too: two forms, with the
+// same ids, stood on the page. The layout now changes as a whole, once
+// the typed words are sent or taken back.
+func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
+	site, d := startDemo(t)
+	// A calibration question without its true value (as one imported
+	// without it stands): the scores wait.
+	added := workshop.Question{WorkshopID: d.w.ID,
+		Wording:  "(Invented.) What share of the (invented) trial batch passed its burn-in?",
+		Quantity: "burn-in pass share", Units: "proportion of units",
+		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+		Calibration: true}
+	if err := site.DB.AddQuestion(context.Background(), &added); err != nil {
+		t.Fatal(err)
+	}
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	other := fac.tab("another tab")
+	other.open(d.url + "/")
+	fac.viewport(1366, 900, false)
+	fac.open(d.url + "/calibration")
+	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	eval[bool](fac, "mark the page", `window.loadedOnce = true`)
+	shots := newScreenshots(t)
+	if fac.count("#scores-table") != 0 || fac.count("#calibration-tail-live #weights-form-live") != 1 {
+		t.Fatalf("the page does not wait for the true value:\n%s", clip(fac.text(), 2000))
+	}
+
+	// The facilitator types a reason for weights in the not-ready form.
+	const typed = "Equal until the scores are in (invented)."
+	const reason = `#weights-form-live textarea[name=reason]`
+	fac.fill("#weights-form-live form", "reason", typed)
+	twoShots(shots, fac, "fac-calibration-not-ready")
+
+	// The last true value entered in another tab: the page is ready.
+	other.postFromPage(d.url+"/calibration/q/"+strconv.FormatInt(added.ID, 10), "true_value=0.62&reason=From+the+batch+sheet+%28invented%29.")
+	follows(t, fac, "the true value", `document.querySelector("#seed-`+strconv.FormatInt(added.ID, 10)+`-facts").innerText.includes("0.62")`)
+	const dupes = `(() => { const seen = {}, twice = []; document.querySelectorAll("[id]").forEach(e => { if (seen[e.id]) twice.push(e.id); seen[e.id] = true; }); return twice; })()`
+	if twice := eval[[]string](fac, "ids on the page twice", dupes); len(twice) != 0 {
+		t.Errorf("the page became ready while the weights were typed: ids twice on the page: %v", twice)
+	}
+	if n := fac.count(`form[action$="/calibration/weights"]`); n != 1 {
+		t.Errorf("the page became ready while the weights were typed: %d weights forms on the page", n)
+	}
+	if got := eval[string](fac, "the typed reason", `document.querySelector("`+reason+`").value`); got != typed {
+		t.Errorf("the page became ready: the typed reason reads %q", got)
+	}
+	// Meanwhile the scores stand where the page said they would appear.
+	if fac.count("#calibration-tail-live #scores-table") != 1 || strings.Contains(fac.text(), "The scores appear once") {
+		t.Errorf("the page became ready while the weights were typed: the scores are not shown:\n%s", clip(fac.text(), 3000))
+	}
+	twoShots(shots, fac, "fac-calibration-ready-held")
+	fac.viewport(phoneWidth, phoneHeight, true)
+	shots.part(fac, "#weights", "fac-calibration-ready-held-weights-390")
+	fac.viewport(1366, 900, false)
+
+	// The words taken back and the focus moved on: the ready layout, with
+	// its one form.
+	eval[bool](fac, "clear the reason", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.value = ""; r.blur(); return true; })()`)
+	follows(t, fac, "the words taken back", `!!document.querySelector("#scores-table") && !!document.querySelector("#calibration-lead-live #weights-form-live")`)
+	if twice := eval[[]string](fac, "ids on the page twice", dupes); len(twice) != 0 {
+		t.Errorf("the ready layout: ids twice on the page: %v", twice)
+	}
+	if n := fac.count(`form[action$="/calibration/weights"]`); n != 1 {
+		t.Errorf("the ready layout: %d weights forms on the page", n)
+	}
+	fac.do("the weights in view", chromedp.ScrollIntoView(chromedp.CSS("#weights")))
+	twoShots(shots, fac, "fac-calibration-ready")
+	fac.noScriptErrors("the layout changed")
+}

@@ -208,13 +208,19 @@
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         var place = placeOnScreen();
         held = [];
+        // Parts that change layout together are held together: one held
+        // alone let the other bring in its form, twice on the page.
+        var together = {};
+        each("[data-live-together]", function (el) {
+          if (atWork(el)) { together[el.getAttribute("data-live-together")] = true; }
+        });
         each("[data-live]", function (el) {
           var fresh = el.id && doc.getElementById(el.id);
           if (fresh && offers(el, fresh)) {
             offered[el.id] = fresh;
           } else if (fresh && atWork(el)) {
             held.push(el.id);
-          } else if (fresh) {
+          } else if (fresh && !together[el.getAttribute("data-live-together")]) {
             replace(el, document.importNode(fresh, true));
           }
         });
@@ -348,14 +354,12 @@
   var retryAfter = 5000;
 
   // state notes the stream's state on the page, in words on its status
-  // line (.live-status): the panel's and the overview's say they follow
-  // changes, the room view's says nothing while all is well. A stream
-  // refused (the session ended, too many streams, the server stopping)
-  // is said at once, and so is one found silent (see silentAfter); one
-  // trying to reach the server again (the server restarted or down, the
-  // network dropped) once it has tried for staleAfter ms, so that a short
-  // break shows nothing. The projector stood silently stale: its room
-  // view had no status line.
+  // line (.live-status; the room view's says nothing while all is well).
+  // A stream refused (the session ended, too many streams, the server
+  // stopping) or found silent (see silentAfter) is said at once; one
+  // trying to reach the server again, once it has tried for staleAfter
+  // ms, so that a short break shows nothing. The projector stood silently
+  // stale: its room view had no status line.
   var staleAfter = 10000;
   var stale = null;
   var since = null;
@@ -424,12 +428,10 @@
 
   // silentAfter is how long a stream may say nothing before it is taken
   // for dead, in ms: a little over two of the server's beats (hello says
-  // how often they come), about 45 s. A connection left dead by a
-  // laptop's sleep, or dropped by the network without a word, looks open
-  // to EventSource, and the page said it followed the workshop while it
-  // heard nothing. Such a stream is closed and opened anew; meanwhile the
-  // page says it does not follow, and once the stream is back it fetches
-  // what changed. As in live-worker.js.
+  // how often they come), about 45 s. A connection dropped without a
+  // word (a laptop's sleep) looks open to EventSource: such a stream is
+  // closed and opened anew, the page saying meanwhile that it does not
+  // follow, and fetching what changed once it is back. As in live-worker.js.
   var silentAfter = 45000;
   function beatsOf(data) {
     try {
@@ -438,13 +440,10 @@
     } catch (err) { /* the last interval heard stands */ }
   }
 
-  // One stream per browser, not per tab: over plain HTTP a browser keeps
-  // at most six connections to a server, and every open stream holds
-  // one, so six live tabs (the overview, the projector's room view, a
-  // few panels) left the seventh page, and every form, waiting forever.
-  // A shared worker (live-worker.js) holds the workshop's one stream and
-  // passes its news to every tab; where there is none, the page holds
-  // its own stream.
+  // One stream per browser, not per tab: a browser keeps at most six
+  // connections to a server over plain HTTP, and a seventh live tab (and
+  // every form) waited forever. A shared worker (live-worker.js) holds the
+  // stream for every tab; without one, the page holds its own.
   var own = null;
   function direct(again) {
     if (gone) { return; }
