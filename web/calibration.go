@@ -554,6 +554,16 @@ func logScaleRefusal(q workshop.Question) string {
 	return "this question cannot be scored on the log scale"
 }
 
+// performanceChoice is the weights form's words for performance weights:
+// from the scores above once they are computed; before, the page shows
+// no scores for "above" to name, and the choice says what it waits for.
+func performanceChoice(ready bool) string {
+	if ready {
+		return "Performance weights from the scores above (with the cut-off shown there)"
+	}
+	return "Performance weights, once the scores can be computed (see “Who earns weight”)"
+}
+
 // notReadyToScore says why a set that is not Ready gives no performance
 // weights, as the page's "Who earns weight" says it: a question still
 // without its true value, or no answered question the classical model

@@ -53,3 +53,45 @@ func TestSteadinessOfALonePanelSaysNothingWasTested(t *testing.T) {
 		t.Error("the robustness table does not say no rerun could be done")
 	}
 }
+
+// Before the scores can be computed (a calibration question still
+// without its true value), the weights form's performance choice does not
+// point at "the scores above": the page shows none (found in review).
+func TestPerformanceChoiceWaitsForTheScores(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ctx := context.Background()
+	ws := workshop.Workshop{Title: "Waiting panel (invented)", Purpose: "Invented test panel", Invented: true}
+	if err := h.db.CreateWorkshop(ctx, &ws); err != nil {
+		t.Fatal(err)
+	}
+	seed := workshop.Question{WorkshopID: ws.ID, Wording: "Seed?", Quantity: "seed share", Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+		Calibration: true}
+	if err := h.db.AddQuestion(ctx, &seed); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{"First Expert", "Second Expert"} {
+		_, hash, err := newToken()
+		if err != nil {
+			t.Fatal(err)
+		}
+		e := workshop.Expert{WorkshopID: ws.ID, Name: name}
+		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
+			t.Fatal(err)
+		}
+		rv := workshop.Revision{QuestionID: seed.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.5}}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	_, body := h.get(calibrationPath(ws.ID))
+	if !strings.Contains(body, `id="weights"`) {
+		t.Fatal("no weights form on the page")
+	}
+	if strings.Contains(body, "from the scores above") {
+		t.Error("the weights form offers performance weights from the scores above, and the page shows no scores")
+	}
+	if !strings.Contains(body, performanceChoice(false)) {
+		t.Error("the weights form does not say performance weights wait for the scores")
+	}
+}

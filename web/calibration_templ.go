@@ -2542,7 +2542,7 @@ func calibrationWeightsForm(v calibrationView) templ.Component {
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
-			templ_7745c5c3_Err = radio(v.WeightsForm, "scheme", string(workshop.WeightsPerformance), "Performance weights from the scores above (with the cut-off shown there)").Render(ctx, templ_7745c5c3_Buffer)
+			templ_7745c5c3_Err = radio(v.WeightsForm, "scheme", string(workshop.WeightsPerformance), performanceChoice(v.Ready)).Render(ctx, templ_7745c5c3_Buffer)
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}
