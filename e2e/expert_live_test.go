@@ -43,6 +43,23 @@ const saveButton = `(() => { const b = document.querySelector("#save-live button
 // which says why it does not save, and the draft stays in its boxes;
 // round 2 opened, the page says so and offers the other experts' answers,
 // shown on the expert's word, the draft still there.
+// endFirstLink has the facilitator end the first expert's link and waits
+// for ex, that expert's open page, to say it no longer works.
+func endFirstLink(t *testing.T, d demo, fac, ex *person) {
+	t.Helper()
+	var expert int64
+	for _, e := range d.experts {
+		if e.Name == d.links[0].Name {
+			expert = e.ID
+		}
+	}
+	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
+	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
+		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
+	}
+	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
+}
+
 func TestExpertPageFollowsItsRound(t *testing.T) {
 	d, fac, ex := followingExpert(t, 0, true)
 	shots := newScreenshots(t)
@@ -120,17 +137,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 
 	// The link ended: the page says it no longer works, and saves
 	// nothing; the draft stays.
-	var expert int64
-	for _, e := range d.experts {
-		if e.Name == d.links[0].Name {
-			expert = e.ID
-		}
-	}
-	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
-	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
-		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
-	}
-	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
+	endFirstLink(t, d, fac, ex)
 	if got := eval[string](ex, "the save button", saveButton); got != "disabled: Saving is closed: this link no longer works" {
 		t.Errorf("the link ended: the save button is %q", got)
 	}
@@ -262,17 +269,7 @@ func TestExpertPageForgetsTheExpertOnceItsLinkEnds(t *testing.T) {
 	// The fit shown is the draft's, as the expert typed it.
 	ex.waitFor("the draft's fit", `document.querySelector("#preview").innerText.includes("Read as 0.117")`)
 
-	var expert int64
-	for _, e := range d.experts {
-		if e.Name == d.links[0].Name {
-			expert = e.ID
-		}
-	}
-	fac.postFromPage(d.url+"/experts/"+strconv.FormatInt(expert, 10)+"/revoke", "confirm=yes&reason=Left+the+panel+%28invented%29.")
-	if err := ex.poll(liveWithin+3*time.Second, `document.documentElement.getAttribute("data-live") === "gone"`); err != nil {
-		t.Fatalf("the link ended: the expert's page did not notice: %v\n%s", err, clip(ex.text(), 2000))
-	}
-	ex.sees("the link ended", "This link no longer works: the facilitator has ended it or given you a new one.")
+	endFirstLink(t, d, fac, ex)
 	const typed = `(() => { const m = {}; document.querySelectorAll("form.answer-form input[type=text], form.answer-form textarea").forEach(f => { m[f.name] = f.value; }); return m; })()`
 	got := eval[map[string]string](ex, "the draft", typed)
 	for n, v := range draft {
