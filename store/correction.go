@@ -94,9 +94,13 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		if err != nil {
 			return fmt.Errorf("store: edit question: %w", err)
 		}
+		at, err := stamp(ctx, tx, old.WorkshopID)
+		if err != nil {
+			return err
+		}
 		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: old.WorkshopID, QuestionID: q.ID, Kind: workshop.EventQuestionEdited,
-			At: now(), Reason: reason, Detail: string(detail),
+			At: at, Reason: reason, Detail: string(detail),
 		})
 	})
 }
@@ -123,7 +127,11 @@ func (db *DB) SetQuestionRetired(ctx context.Context, questionID int64, retired 
 		if retired {
 			kind = workshop.EventQuestionRetired
 		}
-		return insertEvent(ctx, tx, workshop.Event{WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: kind, At: now(), Reason: reason})
+		at, err := stamp(ctx, tx, q.WorkshopID)
+		if err != nil {
+			return err
+		}
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: kind, At: at, Reason: reason})
 	})
 }
 
@@ -144,8 +152,12 @@ func (db *DB) ReopenRound(ctx context.Context, workshopID int64, reason string) 
 		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 1 WHERE id = ?`, workshopID); err != nil {
 			return fmt.Errorf("store: reopen round: %w", err)
 		}
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		return insertEvent(ctx, tx, workshop.Event{
-			WorkshopID: workshopID, Kind: workshop.EventRoundReopened, At: now(), Reason: reason,
+			WorkshopID: workshopID, Kind: workshop.EventRoundReopened, At: at, Reason: reason,
 			Detail: fmt.Sprintf(`{"round":%d}`, w.Round),
 		})
 	})
@@ -169,7 +181,10 @@ func (db *DB) SetArchived(ctx context.Context, workshopID int64, archived bool, 
 			}
 			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the workshop is already " + state}
 		}
-		at := now()
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		if archived && w.Open {
 			if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 0 WHERE id = ?`, workshopID); err != nil {
 				return fmt.Errorf("store: archive: %w", err)
@@ -232,6 +247,7 @@ func (db *DB) DeleteWorkshop(ctx context.Context, workshopID int64, reason strin
 			`DELETE FROM questions WHERE workshop_id = ?`,
 			`DELETE FROM experts WHERE workshop_id = ?`,
 			`DELETE FROM panel_salts WHERE workshop_id = ?`,
+			`DELETE FROM fact_clock WHERE workshop_id = ?`,
 			`DELETE FROM workshops WHERE id = ?`,
 		} {
 			if _, err := tx.ExecContext(ctx, stmt, workshopID); err != nil {
@@ -301,7 +317,10 @@ func (db *DB) SetReasonWithheld(ctx context.Context, revisionID int64, withheld 
 		if (current == 1) == withheld {
 			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the reason is already " + map[bool]string{true: "withheld", false: "shown"}[withheld]}
 		}
-		at := now()
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		if _, err := tx.ExecContext(ctx, `INSERT INTO reason_decisions (revision_id, withheld, reason, at) VALUES (?, ?, ?, ?)`,
 			revisionID, boolInt(withheld), reason, formatTime(at)); err != nil {
 			return fmt.Errorf("store: withhold reason: %w", err)

@@ -181,10 +181,6 @@ func parseTime(s string) (time.Time, error) {
 	return t.UTC(), nil
 }
 
-// now is the clock for stamps the store sets; rounded to microseconds so a
-// stamp reads back exactly as it was handed out.
-func now() time.Time { return time.Now().UTC().Round(time.Microsecond) }
-
 func boolInt(b bool) int {
 	if b {
 		return 1

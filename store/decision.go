@@ -36,8 +36,11 @@ func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 		return err
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		at := now() // in the writer's turn (SaveRevision)
 		if err := workshopExists(ctx, tx, w.WorkshopID); err != nil {
+			return err
+		}
+		at, err := stamp(ctx, tx, w.WorkshopID) // in the writer's turn (SaveRevision)
+		if err != nil {
 			return err
 		}
 		for _, id := range sortedExperts(w.ByExpert) {
@@ -217,7 +220,6 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		return err
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		at := now() // in the writer's turn (SaveRevision)
 		var (
 			workshopID int64
 			round      int
@@ -231,6 +233,10 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		}
 		if err != nil {
 			return fmt.Errorf("store: agree prior: %w", err)
+		}
+		at, err := stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
+		if err != nil {
+			return err
 		}
 		// Only a target question in use takes a prior.
 		q, err := questionInTx(ctx, tx, p.QuestionID)

@@ -19,8 +19,11 @@ func (db *DB) AddExpert(ctx context.Context, e *workshop.Expert, tokenHash []byt
 		return &elicit.InputError{Field: "token_hash", Rule: elicit.RuleRequired}
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		created := now() // in the writer's turn (SaveRevision)
 		if err := workshopExists(ctx, tx, e.WorkshopID); err != nil {
+			return err
+		}
+		created, err := stamp(ctx, tx, e.WorkshopID) // in the writer's turn (SaveRevision)
+		if err != nil {
 			return err
 		}
 		res, err := tx.ExecContext(ctx,
@@ -165,8 +168,12 @@ func (db *DB) expertDecision(ctx context.Context, expertID int64, kind workshop.
 		if _, err := tx.ExecContext(ctx, update, args...); err != nil {
 			return fmt.Errorf("store: expert %d: %s: %w", expertID, kind, err)
 		}
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		return insertEvent(ctx, tx, workshop.Event{
-			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
+			WorkshopID: workshopID, Kind: kind, At: at, Reason: reason,
 			Detail: fmt.Sprintf(`{"expert_id":%d}`, expertID),
 		})
 	})

@@ -70,8 +70,12 @@ func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
 		if err != nil {
 			return fmt.Errorf("store: add question: %w", err)
 		}
+		at, err := stamp(ctx, tx, q.WorkshopID)
+		if err != nil {
+			return err
+		}
 		if err := insertEvent(ctx, tx, workshop.Event{
-			WorkshopID: q.WorkshopID, QuestionID: id, Kind: workshop.EventQuestionAdded, At: now(),
+			WorkshopID: q.WorkshopID, QuestionID: id, Kind: workshop.EventQuestionAdded, At: at,
 			Detail: string(q.Definition()),
 		}); err != nil {
 			return err
@@ -159,14 +163,17 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			value, boolInt(reveal), questionID); err != nil {
 			return fmt.Errorf("store: set true value: %w", err)
 		}
+		at, err := stamp(ctx, tx, q.WorkshopID)
+		if err != nil {
+			return err
+		}
 		if !reveal {
 			// The value stays hidden, from the record too until the reveal,
 			// so the event says only that it was entered or changed.
 			return insertEvent(ctx, tx, workshop.Event{
-				WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventTruthEntered, At: now(), Reason: reason,
+				WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventTruthEntered, At: at, Reason: reason,
 			})
 		}
-		at := now()
 		shown := workshop.Reveal{TrueValue: value}
 		if !q.Revealed {
 			// The freeze is recorded in the event as set, so the record
@@ -222,9 +229,13 @@ func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason
 			return fmt.Errorf("store: set log scale: %w", err)
 		}
 		detail, _ := json.Marshal(map[string]bool{"log_uniform_background": on})
+		at, err := stamp(ctx, tx, q.WorkshopID)
+		if err != nil {
+			return err
+		}
 		return insertEvent(ctx, tx, workshop.Event{
 			WorkshopID: q.WorkshopID, QuestionID: questionID, Kind: workshop.EventScaleSet,
-			At: now(), Reason: reason, Detail: string(detail),
+			At: at, Reason: reason, Detail: string(detail),
 		})
 	})
 }

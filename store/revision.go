@@ -37,7 +37,15 @@ func (db *DB) SaveRevision(ctx context.Context, r *workshop.Revision) error {
 	return db.writeRevision(ctx, func(tx *sql.Tx) error {
 		// Stamped in the writer's turn, so that the record's time order
 		// (the fingerprint's chain) is the order of the commits.
-		return saveRevision(ctx, tx, r, values, counts, now())
+		ws, err := questionWorkshop(ctx, tx, r.QuestionID)
+		if err != nil {
+			return err
+		}
+		at, err := stamp(ctx, tx, ws)
+		if err != nil {
+			return err
+		}
+		return saveRevision(ctx, tx, r, values, counts, at)
 	})
 }
 
@@ -139,7 +147,17 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 		write = db.write // an event is a row the cache may hold
 	}
 	return write(ctx, func(tx *sql.Tx) error {
-		at := now() // in the writer's turn (SaveRevision)
+		if len(rs) == 0 {
+			return nil
+		}
+		ws, err := questionWorkshop(ctx, tx, rs[0].QuestionID)
+		if err != nil {
+			return &workshop.RevisionRefused{Index: 0, Err: err}
+		}
+		at, err := stamp(ctx, tx, ws) // in the writer's turn (SaveRevision)
+		if err != nil {
+			return err
+		}
 		for i := range rs {
 			if err := saveRevision(ctx, tx, &rs[i], enc[i].values, enc[i].counts, at); err != nil {
 				return &workshop.RevisionRefused{Index: i, Err: err}

@@ -24,10 +24,6 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		return err
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		at := now() // in the writer's turn (SaveRevision)
-		if err := d.CheckObservedBy(at); err != nil {
-			return err
-		}
 		var workshopID int64
 		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM questions WHERE id = ?`, d.QuestionID).Scan(&workshopID)
 		if errors.Is(err, sql.ErrNoRows) {
@@ -35,6 +31,13 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		}
 		if err != nil {
 			return fmt.Errorf("store: record data: %w", err)
+		}
+		at, err := stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
+		if err != nil {
+			return err
+		}
+		if err := d.CheckObservedBy(at); err != nil {
+			return err
 		}
 		// The current agreed prior is the question's latest (questionState.current).
 		var prior elicit.Beta

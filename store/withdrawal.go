@@ -41,7 +41,10 @@ func (db *DB) WithdrawRevision(ctx context.Context, workshopID, revisionID int64
 		if err := workshop.CheckWithdrawal(w, q, rv, reason); err != nil {
 			return err
 		}
-		at := now()
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		if _, err := tx.ExecContext(ctx, `INSERT INTO withdrawals (revision_id, reason, at) VALUES (?, ?, ?)`,
 			revisionID, reason, formatTime(at)); err != nil {
 			return fmt.Errorf("store: withdraw revision: %w", err)

@@ -82,7 +82,11 @@ func (db *DB) UpdateWorkshop(ctx context.Context, w workshop.Workshop) error {
 		if err != nil {
 			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
 		}
-		return insertEvent(ctx, tx, workshop.Event{WorkshopID: w.ID, Kind: workshop.EventWorkshopEdited, At: now(), Detail: string(detail)})
+		at, err := stamp(ctx, tx, w.ID)
+		if err != nil {
+			return err
+		}
+		return insertEvent(ctx, tx, workshop.Event{WorkshopID: w.ID, Kind: workshop.EventWorkshopEdited, At: at, Detail: string(detail)})
 	})
 }
 
@@ -167,8 +171,12 @@ func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bo
 			round, boolInt(open), workshopID); err != nil {
 			return fmt.Errorf("store: set round: %w", err)
 		}
+		at, err := stamp(ctx, tx, workshopID)
+		if err != nil {
+			return err
+		}
 		return insertEvent(ctx, tx, workshop.Event{
-			WorkshopID: workshopID, Kind: kind, At: now(), Reason: reason,
+			WorkshopID: workshopID, Kind: kind, At: at, Reason: reason,
 			Detail: fmt.Sprintf(`{"round":%d}`, round),
 		})
 	})

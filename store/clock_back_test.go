@@ -1,0 +1,110 @@
+package store
+
+import (
+	"context"
+	"path/filepath"
+	"testing"
+	"time"
+
+	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/fingerprint"
+	"github.com/parley-elicit/parley/elicit/workshop"
+)
+
+// setClock makes the store's clock read what at returns until the test
+// ends.
+func setClock(t *testing.T, at func() time.Time) {
+	t.Helper()
+	clock = at
+	t.Cleanup(func() { clock = time.Now })
+}
+
+// A server clock set back (by hand, or by a time service correcting it)
+// stamped the facts written after it before those already written. The
+// fingerprint's chain orders facts by time, so a save made in round 2
+// was chained before round 1's close and the value the room had noted at
+// that close changed; and the exported record's save fell before the
+// round it was saved in, which record.CheckRounds, and so import,
+// refused. A workshop's facts are now stamped after its latest one,
+// whatever the clock says, also after the server is started again and
+// for a workshop whose latest time is not yet kept (written before
+// fact_clock).
+func TestAClockSetBackStampsAfterTheLatestFact(t *testing.T) {
+	ctx := context.Background()
+	path := filepath.Join(t.TempDir(), "parley.db")
+	db, err := Open(path)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer func() { db.Close() }()
+	t0 := time.Now().UTC().Round(time.Microsecond)
+	setClock(t, func() time.Time { return t0 })
+	p := seed(t, db)
+	q, ws := p.qs[0].ID, p.w.ID
+	r1 := workshop.Revision{QuestionID: q, ExpertID: p.experts[0].ID, Answer: quantileAnswer(0.3)}
+	must(t, db.SaveRevision(ctx, &r1))
+	setClock(t, func() time.Time { return t0.Add(time.Second) })
+	must(t, db.SetRound(ctx, ws, 1, false, "end of round 1"))
+	closeValue := func() (fingerprint.Value, time.Time) {
+		t.Helper()
+		rec, err := db.Record(ctx, ws, time.Now())
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := rec.CheckRounds(); err != nil {
+			t.Fatalf("the record's saves and rounds disagree: %v", err)
+		}
+		l, ok := fingerprint.Of(rec.Facts()).LastClose(1)
+		if !ok {
+			t.Fatal("no close of round 1 in the chain")
+		}
+		return l.Value, l.At
+	}
+	noted, closedAt := closeValue()
+
+	// The clock goes back an hour; round 2 opens and an answer is saved.
+	setClock(t, func() time.Time { return t0.Add(-time.Hour) })
+	must(t, db.SetRound(ctx, ws, 2, true, "round 2"))
+	r2 := workshop.Revision{QuestionID: q, ExpertID: p.experts[1].ID, Answer: quantileAnswer(0.4)}
+	must(t, db.SaveRevision(ctx, &r2))
+	if !r2.At.After(closedAt) {
+		t.Fatalf("a save of round 2 stamped %v, not after round 1's close at %v", r2.At, closedAt)
+	}
+	if v, _ := closeValue(); v != noted {
+		t.Fatalf("the value noted at round 1's close moved from %s to %s", noted.Short(), v.Short())
+	}
+
+	// Started again with the clock still behind: the kept latest holds.
+	db.Close()
+	if db, err = Open(path); err != nil {
+		t.Fatal(err)
+	}
+	w := workshop.Weights{WorkshopID: ws, Scheme: workshop.WeightsEqual, Reason: "equal"}
+	must(t, db.SetWeights(ctx, &w))
+	if !w.At.After(r2.At) {
+		t.Fatalf("weights set after a restart stamped %v, not after the save at %v", w.At, r2.At)
+	}
+
+	// A workshop whose latest time is not kept takes it from its facts.
+	if _, err := db.w.ExecContext(ctx, `DELETE FROM fact_clock`); err != nil {
+		t.Fatal(err)
+	}
+	ap := workshop.AgreedPrior{QuestionID: q, Source: workshop.PriorFromPool,
+		Dist: elicit.Unit(elicit.Beta{Alpha: 4, Beta: 9}), Rationale: "the pool", RoundOpen: true}
+	must(t, db.AgreePrior(ctx, &ap))
+	if !ap.At.After(w.At) {
+		t.Fatalf("a prior agreed with no kept latest stamped %v, not after the weights at %v", ap.At, w.At)
+	}
+	if v, _ := closeValue(); v != noted {
+		t.Fatalf("the value noted at round 1's close moved from %s to %s", noted.Short(), v.Short())
+	}
+
+	// Once the clock passes the latest fact, facts carry its time again.
+	later := t0.Add(time.Hour)
+	setClock(t, func() time.Time { return later })
+	r3 := workshop.Revision{QuestionID: q, ExpertID: p.experts[2].ID, Answer: quantileAnswer(0.35)}
+	must(t, db.SaveRevision(ctx, &r3))
+	if !r3.At.Equal(later) {
+		t.Fatalf("with the clock ahead again a save is stamped %v, want the clock's %v", r3.At, later)
+	}
+}
