@@ -116,17 +116,15 @@ var ErrFitFailed = errors.New("elicit: no Beta within the accuracy envelope fits
 //	minimise S(α, β) = Σᵢ (F(uᵢ; α, β) − pᵢ)²,  uᵢ = (xᵢ − lower)/(upper − lower),
 //
 // the usual choice in the elicitation literature (O'Hagan et al. 2006,
-// "Uncertain Judgements", §6.4). The search runs over (log α, log β) with
-// gonum/optimize from a moment-based start; unless that fit misses no
-// probability by more than 0.035 (closeFit), from two further starts at
-// the same mean with α+β 30 times larger and smaller; and unless the best
-// fit then misses by no more than PoorFitThreshold, from a deterministic
-// grid of starts over α+β and the mean. A judgement that states a
-// probability beyond 1e-4 of 0 or 1 also starts from the Betas that match
-// two of its pairs exactly (pairStarts: its first and last, and each with
-// the one nearest the median). A judgement of two pairs is matched exactly
+// "Uncertain Judgements", §6.4). fitCumulative searches the whole box
+// MinShape ≤ α, β ≤ MaxShape in (log α, log β) with a Levenberg–Marquardt
+// solver on analytic derivatives, from a moment-based start and the Betas
+// that match two of the pairs exactly (pairStarts), and proves the
+// minimum it reaches global (fitGlobal, whose doc comment gives the
+// argument), trying further starts and a branch and bound where it
+// cannot. A judgement of two pairs is matched exactly
 // (|F(xᵢ) − pᵢ| ≤ 1e-10), or refused with RuleFitRange if no Beta in the
-// search range matches it.
+// box matches it; so is one whose minimum lies on the box's edge.
 func FitQuantiles(j Judgement) (Fit, error) {
 	if err := j.Validate(); err != nil {
 		return Fit{}, err
