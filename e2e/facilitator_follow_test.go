@@ -2,6 +2,7 @@ package e2e
 
 import (
 	"context"
+	"math"
 	"net/url"
 	"strconv"
 	"strings"
@@ -222,20 +223,28 @@ func TestCalibrationPageFollowsTheWorkshop(t *testing.T) {
 // (after the calibration questions) or its ready one (after the scores).
 // A page that became ready while the facilitator typed in the not-ready
 // form held that form and put in the ready one too: two forms, with the
-// same ids, stood on the page. The layout now changes as a whole, once
-// the typed words are sent or taken back.
+// same ids, stood on the page. Then the whole layout waited for the typed
+// words, and the contents links, the steadiness and the comparison of
+// pools stood stale (or missing) until they were sent or taken back. Now
+// the layout changes at once, both ways, and the form being typed is
+// carried into it as it is: its words, its choice, the focus and the
+// caret, one form on the page.
 func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 	site, d := startDemo(t)
 	// A calibration question without its true value (as one imported
 	// without it stands): the scores wait.
-	added := workshop.Question{WorkshopID: d.w.ID,
-		Wording:  "(Invented.) What share of the (invented) trial batch passed its burn-in?",
-		Quantity: "burn-in pass share", Units: "proportion of units",
-		Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
-		Calibration: true}
-	if err := site.DB.AddQuestion(context.Background(), &added); err != nil {
-		t.Fatal(err)
+	waiting := func(what string) workshop.Question {
+		q := workshop.Question{WorkshopID: d.w.ID,
+			Wording:  "(Invented.) What share of the (invented) " + what + " passed its burn-in?",
+			Quantity: what + " pass share", Units: "proportion of units",
+			Lower: 0, Upper: 1, Format: workshop.FormatQuantiles, Probs: []float64{0.05, 0.5, 0.95},
+			Calibration: true}
+		if err := site.DB.AddQuestion(context.Background(), &q); err != nil {
+			t.Fatal(err)
+		}
+		return q
 	}
+	added := waiting("trial batch")
 	br := startBrowser(t)
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
@@ -250,45 +259,97 @@ func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 		t.Fatalf("the page does not wait for the true value:\n%s", clip(fac.text(), 2000))
 	}
 
-	// The facilitator types a reason for weights in the not-ready form.
+	// The facilitator picks weights of their own and types a reason in
+	// the not-ready form, the caret left inside the words.
 	const typed = "Equal until the scores are in (invented)."
 	const reason = `#weights-form-live textarea[name=reason]`
+	eval[bool](fac, "pick weights I set", `document.querySelector("#weights-form-live input[name=scheme][value=custom]").checked = true`)
 	fac.fill("#weights-form-live form", "reason", typed)
+	eval[bool](fac, "the caret", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.setSelectionRange(6, 11); r.scrollIntoView({block: "center"}); return true; })()`)
+	const formState = `(() => { const r = document.querySelector("` + reason + `"); return [r.value, String(document.activeElement === r), r.selectionStart + "-" + r.selectionEnd, String(document.querySelector("#weights-form-live input[name=scheme][value=custom]").checked)]; })()`
+	want := []string{typed, "true", "6-11", "true"}
+	const dupes = `(() => { const seen = {}, twice = []; document.querySelectorAll("[id]").forEach(e => { if (seen[e.id]) twice.push(e.id); seen[e.id] = true; }); return twice; })()`
+	// Where the words being typed stand on the screen, in px.
+	const onScreen = `document.querySelector("` + reason + `").getBoundingClientRect().top`
+	var stood float64
+	asTyped := func(when, layout string) {
+		t.Helper()
+		// Unless the page, shorter, ends before they could stand there.
+		const atEnd = `window.scrollY + window.innerHeight >= document.documentElement.scrollHeight - 1`
+		if at := eval[float64](fac, "the words on the screen", onScreen); math.Abs(at-stood) > 1 && !(at > stood && eval[bool](fac, "the page's end", atEnd)) {
+			t.Errorf("%s: the words being typed moved on the screen from %.0f px to %.0f px", when, stood, at)
+		}
+		if got := eval[[]string](fac, "the form as typed", formState); strings.Join(got, "|") != strings.Join(want, "|") {
+			t.Errorf("%s: the form reads (words, focus, caret, own weights) %q; want %q", when, got, want)
+		}
+		if twice := eval[[]string](fac, "ids on the page twice", dupes); len(twice) != 0 {
+			t.Errorf("%s: ids twice on the page: %v", when, twice)
+		}
+		if n := fac.count(`form[action$="/calibration/weights"]`); n != 1 {
+			t.Errorf("%s: %d weights forms on the page", when, n)
+		}
+		if fac.count(layout+" #weights-form-live") != 1 {
+			t.Errorf("%s: the weights form is not in %s", when, layout)
+		}
+	}
 	twoShots(shots, fac, "fac-calibration-not-ready")
+	// The focus back in the words after the phone's width.
+	eval[bool](fac, "the caret", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.setSelectionRange(6, 11); r.scrollIntoView({block: "center"}); return true; })()`)
 
-	// The last true value entered in another tab: the page is ready.
+	// The last true value entered in another tab: the page is ready, all
+	// of it at once, with the form as typed where the ready page has it,
+	// kept where it stood on the screen.
+	stood = eval[float64](fac, "the words on the screen", onScreen)
 	other.postFromPage(d.url+"/calibration/q/"+strconv.FormatInt(added.ID, 10), "true_value=0.62&reason=From+the+batch+sheet+%28invented%29.")
 	follows(t, fac, "the true value", `document.querySelector("#seed-`+strconv.FormatInt(added.ID, 10)+`-facts").innerText.includes("0.62")`)
-	const dupes = `(() => { const seen = {}, twice = []; document.querySelectorAll("[id]").forEach(e => { if (seen[e.id]) twice.push(e.id); seen[e.id] = true; }); return twice; })()`
-	if twice := eval[[]string](fac, "ids on the page twice", dupes); len(twice) != 0 {
-		t.Errorf("the page became ready while the weights were typed: ids twice on the page: %v", twice)
+	asTyped("the page became ready while the weights were typed", "#calibration-lead-live")
+	ready := map[string]string{
+		"the contents links":         `#calibration-lead-live nav.page-contents a[href="#robustness"]`,
+		"the scores":                 `#calibration-lead-live #scores #scores-table`,
+		"the steadiness":             `#calibration-lead-live #robustness table`,
+		"the comparison of pools":    `#calibration-lead-live #compare table`,
+		"the account of the weights": `#calibration-lead-live #weights #weights-account-live`,
 	}
-	if n := fac.count(`form[action$="/calibration/weights"]`); n != 1 {
-		t.Errorf("the page became ready while the weights were typed: %d weights forms on the page", n)
+	for what, css := range ready {
+		if fac.count(css) != 1 {
+			t.Errorf("the page became ready while the weights were typed: %s not shown (%s)", what, css)
+		}
 	}
-	if got := eval[string](fac, "the typed reason", `document.querySelector("`+reason+`").value`); got != typed {
-		t.Errorf("the page became ready: the typed reason reads %q", got)
+	if fac.count("#calibration-tail-live *") != 0 || strings.Contains(fac.text(), "The scores appear once") {
+		t.Errorf("the page became ready while the weights were typed: the not-ready layout stands:\n%s", clip(fac.text(), 3000))
 	}
-	// Meanwhile the scores stand where the page said they would appear.
-	if fac.count("#calibration-tail-live #scores-table") != 1 || strings.Contains(fac.text(), "The scores appear once") {
-		t.Errorf("the page became ready while the weights were typed: the scores are not shown:\n%s", clip(fac.text(), 3000))
-	}
-	twoShots(shots, fac, "fac-calibration-ready-held")
-	fac.viewport(phoneWidth, phoneHeight, true)
-	shots.part(fac, "#weights", "fac-calibration-ready-held-weights-390")
-	fac.viewport(1366, 900, false)
+	twoShots(shots, fac, "fac-calibration-ready-typed")
+	shots.part(fac, "#weights", "fac-calibration-ready-typed-weights-1366")
+	eval[bool](fac, "the caret", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.setSelectionRange(6, 11); r.scrollIntoView({block: "center"}); return true; })()`)
 
-	// The words taken back and the focus moved on: the ready layout, with
-	// its one form.
-	eval[bool](fac, "clear the reason", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.value = ""; r.blur(); return true; })()`)
-	follows(t, fac, "the words taken back", `!!document.querySelector("#scores-table") && !!document.querySelector("#calibration-lead-live #weights-form-live")`)
+	// Another calibration question without its true value, and a change
+	// in another tab: the page waits for the scores again, at once, and
+	// shows none of the scores' sections it had.
+	waiting("spare batch")
+	stood = eval[float64](fac, "the words on the screen", onScreen)
+	other.postFromPage(d.url+"/calibration/weights", "scheme=equal&reason=Equal+for+now+%28invented%29.")
+	follows(t, fac, "the page waiting again", `document.body.innerText.includes("The scores appear once")`)
+	asTyped("the page stopped being ready while the weights were typed", "#calibration-tail-live")
+	for what, css := range ready {
+		if fac.count(css) != 0 {
+			t.Errorf("the page stopped being ready while the weights were typed: %s still shown (%s)", what, css)
+		}
+	}
+	if n := fac.count("#robustness, #compare, nav.page-contents"); n != 0 {
+		t.Errorf("the page stopped being ready: %d of the ready page's sections stand", n)
+	}
+	twoShots(shots, fac, "fac-calibration-waiting-typed")
+	shots.part(fac, "#weights", "fac-calibration-waiting-typed-weights-1366")
+
+	// The words taken back, the choice put back and the focus moved on:
+	// the form is the page's own again, and one.
+	eval[bool](fac, "clear the form", `(() => { const r = document.querySelector("`+reason+`"); r.focus(); r.value = ""; document.querySelectorAll("#weights-form-live input[name=scheme]").forEach(i => { i.checked = i.defaultChecked; }); r.closest("#weights-form-live").setAttribute("data-typed-in", ""); r.blur(); return true; })()`)
+	follows(t, fac, "the form left", `!!document.querySelector("#calibration-tail-live #weights-form-live") && !document.querySelector("#weights-form-live[data-typed-in]")`)
 	if twice := eval[[]string](fac, "ids on the page twice", dupes); len(twice) != 0 {
-		t.Errorf("the ready layout: ids twice on the page: %v", twice)
+		t.Errorf("the form left: ids twice on the page: %v", twice)
 	}
 	if n := fac.count(`form[action$="/calibration/weights"]`); n != 1 {
-		t.Errorf("the ready layout: %d weights forms on the page", n)
+		t.Errorf("the form left: %d weights forms on the page", n)
 	}
-	fac.do("the weights in view", chromedp.ScrollIntoView(chromedp.CSS("#weights")))
-	twoShots(shots, fac, "fac-calibration-ready")
 	fac.noScriptErrors("the layout changed")
 }

@@ -138,14 +138,8 @@
     }
   }
 
-  // placeOnScreen is the first part a change replaces that shows on the
-  // screen, and where it stands, for keepPlace. The browser keeps the
-  // reader's place over changes above it by an element on the screen,
-  // its scroll anchor; when that lies in a part that is replaced, the
-  // anchor goes with it and the page jumped (the question's panel, read
-  // at its revision history, as an expert's save added rows above it).
-  // Nothing above that part on the screen is replaced, so keeping it
-  // where it stood keeps what the browser's anchor would have kept.
+  // placeOnScreen is the first live part on the screen, and where it
+  // stands, for keepPlace (DEVELOPERS.md, "Live pages").
   function placeOnScreen() {
     if (window.scrollY <= 0) { return null; }
     var parts = document.querySelectorAll("[data-live]");
@@ -169,12 +163,8 @@
     }
   }
 
-  // A fetch of the page that failed (the server busy or restarting, the
-  // network dropped) or hung (a connection left dead by a laptop's sleep)
-  // left the page as it was until the next change, and a hung one kept
-  // every later change from fetching it: a fetch is given up after
-  // fetchLimit ms, and one that failed is tried again after failedWait ms,
-  // twice as long each time it fails again, up to a minute.
+  // A fetch is given up after fetchLimit ms; one that failed is tried
+  // again after failedWait ms, doubling up to a minute.
   var fetchLimit = 15000;
   var failedWait = 2000;
   var wait = failedWait;
@@ -208,22 +198,55 @@
         if (marked) { seen = marked.getAttribute("data-live-version") || ""; }
         var place = placeOnScreen();
         held = [];
-        // Parts that change layout together are held together: one held
-        // alone let the other bring in its form, twice on the page.
+        // Parts that change layout together (data-live-together) are put in
+        // together, the parts at work in them carried into the fresh ones
+        // as they are; held together where that cannot be (DEVELOPERS.md).
         var together = {};
+        var carried = [];
+        var a = document.activeElement;
+        var sel = a && [a.selectionStart, a.selectionEnd, a.selectionDirection, a.scrollTop];
+        function group(el) { return el.getAttribute("data-live-together"); }
         each("[data-live-together]", function (el) {
-          if (atWork(el)) { together[el.getAttribute("data-live-together")] = true; }
+          if (!atWork(el)) { return; }
+          var g = group(el);
+          var parts = Array.prototype.filter.call(el.querySelectorAll("[data-live]"), function (p) {
+            return atWork(p) && !Array.prototype.some.call(p.querySelectorAll("[data-live]"), atWork);
+          });
+          if (!parts.length || parts.some(function (p) {
+            var n = p.id && doc.getElementById(p.id);
+            return !n || !n.closest('[data-live-together="' + g + '"]');
+          })) {
+            together[g] = true;
+          }
+          carried = carried.concat(parts);
         });
+        carried = carried.filter(function (p) { return !together[group(p.closest("[data-live-together]"))]; });
+        var typing = a && carried.some(function (p) { return p.contains(a); });
+        var r = typing && a.id && a.getBoundingClientRect();
+        if (r && r.bottom > 0 && r.top < window.innerHeight) { place = { id: a.id, top: r.top }; }
         each("[data-live]", function (el) {
+          if (!el.isConnected || carried.indexOf(el) >= 0) { return; }
           var fresh = el.id && doc.getElementById(el.id);
+          var g = group(el);
           if (fresh && offers(el, fresh)) {
             offered[el.id] = fresh;
-          } else if (fresh && atWork(el)) {
+          } else if (fresh && (!g || together[g]) && atWork(el)) {
             held.push(el.id);
-          } else if (fresh && !together[el.getAttribute("data-live-together")]) {
-            replace(el, document.importNode(fresh, true));
+          } else if (fresh && !together[g]) {
+            fresh = document.importNode(fresh, true);
+            carried.forEach(function (p) {
+              var n = fresh.querySelector('[id="' + p.id + '"]');
+              if (n) { n.replaceWith(p); }
+            });
+            replace(el, fresh);
           }
         });
+        carried.forEach(function (p) { held.push(p.id); });
+        if (typing && a !== document.activeElement) {
+          a.focus({ preventScroll: true });
+          if (sel[0] != null) { a.setSelectionRange(sel[0], sel[1], sel[2]); }
+          a.scrollTop = sel[3];
+        }
         wait = failedWait;
         notice(false);
         document.documentElement.setAttribute("data-live-updated", String(Date.now()));
@@ -328,12 +351,8 @@
     if (own) { own.close(); }
   }
 
-  // schedule fetches the page in a while: 250 ms, to gather changes that
-  // arrive close together, or delay ms. A change heard while a failed
-  // fetch waits to be tried again cuts the wait short: the server is
-  // there, its stream just spoke. The projector stood a minute behind
-  // the room after the server came back from a restart (its fetches had
-  // failed meanwhile, the wait doubling), while it said it was connected.
+  // schedule fetches the page in 250 ms (changes close together are
+  // gathered) or delay ms; a change heard cuts a failed fetch's wait short.
   var due = 0;
   function schedule(delay) {
     if (gone) { return; }
@@ -426,12 +445,9 @@
     }
   }
 
-  // silentAfter is how long a stream may say nothing before it is taken
-  // for dead, in ms: a little over two of the server's beats (hello says
-  // how often they come), about 45 s. A connection dropped without a
-  // word (a laptop's sleep) looks open to EventSource: such a stream is
-  // closed and opened anew, the page saying meanwhile that it does not
-  // follow, and fetching what changed once it is back. As in live-worker.js.
+  // silentAfter is how long a stream may say nothing before it is closed
+  // and opened anew, in ms: 2.25 of the server's beats (hello says how
+  // often they come). As in live-worker.js.
   var silentAfter = 45000;
   function beatsOf(data) {
     try {
@@ -440,10 +456,8 @@
     } catch (err) { /* the last interval heard stands */ }
   }
 
-  // One stream per browser, not per tab: a browser keeps at most six
-  // connections to a server over plain HTTP, and a seventh live tab (and
-  // every form) waited forever. A shared worker (live-worker.js) holds the
-  // stream for every tab; without one, the page holds its own.
+  // One stream per browser, not per tab, held by a shared worker
+  // (live-worker.js); without one, the page holds its own.
   var own = null;
   function direct(again) {
     if (gone) { return; }
