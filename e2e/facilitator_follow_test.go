@@ -272,8 +272,14 @@ func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 	// Where the words being typed stand on the screen, in px.
 	const onScreen = `document.querySelector("` + reason + `").getBoundingClientRect().top`
 	var stood float64
-	asTyped := func(when, layout string) {
+	// The form's words for performance weights follow the page as it is
+	// typed in: they said the weights wait for the scores beside the
+	// scores, and offered the scores above where there were none.
+	asTyped := func(when, layout, choice string) {
 		t.Helper()
+		if got := eval[string](fac, "the performance choice", `document.querySelector("#weights-form-live input[value=performance]").labels[0].innerText`); !strings.Contains(got, choice) {
+			t.Errorf("%s: the performance choice reads %q; want %q in it", when, got, choice)
+		}
 		// Unless the page, shorter, ends before they could stand there.
 		const atEnd = `window.scrollY + window.innerHeight >= document.documentElement.scrollHeight - 1`
 		if at := eval[float64](fac, "the words on the screen", onScreen); math.Abs(at-stood) > 1 && !(at > stood && eval[bool](fac, "the page's end", atEnd)) {
@@ -302,7 +308,7 @@ func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 	stood = eval[float64](fac, "the words on the screen", onScreen)
 	other.postFromPage(d.url+"/calibration/q/"+strconv.FormatInt(added.ID, 10), "true_value=0.62&reason=From+the+batch+sheet+%28invented%29.")
 	follows(t, fac, "the true value", `document.querySelector("#seed-`+strconv.FormatInt(added.ID, 10)+`-facts").innerText.includes("0.62")`)
-	asTyped("the page became ready while the weights were typed", "#calibration-lead-live")
+	asTyped("the page became ready while the weights were typed", "#calibration-lead-live", "from the scores above")
 	ready := map[string]string{
 		"the contents links":         `#calibration-lead-live nav.page-contents a[href="#robustness"]`,
 		"the scores":                 `#calibration-lead-live #scores #scores-table`,
@@ -329,7 +335,7 @@ func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 	stood = eval[float64](fac, "the words on the screen", onScreen)
 	other.postFromPage(d.url+"/calibration/weights", "scheme=equal&reason=Equal+for+now+%28invented%29.")
 	follows(t, fac, "the page waiting again", `document.body.innerText.includes("The scores appear once")`)
-	asTyped("the page stopped being ready while the weights were typed", "#calibration-tail-live")
+	asTyped("the page stopped being ready while the weights were typed", "#calibration-tail-live", "once the scores can be computed")
 	for what, css := range ready {
 		if fac.count(css) != 0 {
 			t.Errorf("the page stopped being ready while the weights were typed: %s still shown (%s)", what, css)

@@ -236,7 +236,12 @@
             fresh = document.importNode(fresh, true);
             carried.forEach(function (p) {
               var n = fresh.querySelector('[id="' + p.id + '"]');
-              if (n) { n.replaceWith(p); }
+              if (!n) { return; }
+              n.replaceWith(p);
+              Array.prototype.forEach.call(p.querySelectorAll("[data-live]"), function (q) {
+                var m = n.querySelector('[id="' + q.id + '"]');
+                if (m && !atWork(q)) { q.replaceWith(m); }
+              });
             });
             replace(el, fresh);
           }
