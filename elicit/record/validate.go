@@ -41,8 +41,10 @@ func (r Record) Validate() error {
 // ValidateFits is Validate that also returns the fresh fit of every
 // revision, in the record's order, for the import to keep with it. A
 // revision that carries its fit (every record Parley writes) is checked
-// against the fresh one: α and β must agree to 1e-6 relative and the
-// bounds exactly, else RuleFitMismatch at "revisions[i].fit".
+// against the fresh one (sameFit: the bounds exactly, and α and β to 1e-6
+// relative or, for a fit an earlier solver stopped elsewhere in the
+// objective's flat valley, the curve to 1e-5 in every chance below and the
+// objective to its minimum), else RuleFitMismatch at "revisions[i].fit".
 func (r Record) ValidateFits() ([]elicit.Fit, error) {
 	fits := make([]elicit.Fit, len(r.Revisions))
 	if err := r.validate(fits); err != nil {
@@ -56,6 +58,83 @@ func (r Record) ValidateFits() ([]elicit.Fit, error) {
 // relative in the objective at the global minimum), far below any
 // difference that changes a printed digit.
 const fitAgreement = 1e-6
+
+// curveAgreement is the largest difference in a chance below, at the
+// points sameCurve probes, between a Beta the record keeps and the one
+// this version computes, where their α and β lie further apart than
+// fitAgreement. An earlier version's solver may stop elsewhere along the
+// flat valley of the least-squares objective, where α and β move together
+// and the curve barely moves: the records a build of 2026-12-02 exported,
+// before the Levenberg–Marquardt fit, keep fits whose α and β lie up to
+// 4e-5 from this version's and whose chances below lie up to 8e-6 from
+// them (TestRecordsOfEarlierBuildsImport). 1e-5 is below any difference a
+// page shows (they write chances to three or four figures, 49.30% or
+// 6.190%) and far below any judgement's own precision; a kept Beta
+// changed by hand moves the curve by more (α alone 1e-4 larger moves
+// the invented demo's first fit by 6e-5 at its median).
+const curveAgreement = 1e-5
+
+// sseAgreement is how much larger, relatively, the least-squares objective
+// of a kept fit may be than this version's minimum where sameFit falls
+// back on the curves: an earlier solver's stopping tolerance (2e-8 in
+// the records above). An exact fit, whose minimum is 0, may have up to
+// sseFloor.
+const (
+	sseAgreement = 1e-6
+	sseFloor     = 1e-12
+)
+
+// curveProbes are the chances at which sameCurve compares two curves,
+// beside any stated values.
+var curveProbes = [...]float64{0.01, 0.05, 0.25, 0.5, 0.75, 0.95, 0.99}
+
+// sameCurve reports whether the Beta k the record keeps is this version's
+// f for every purpose the record shows it for: the same bounds, and α and
+// β within fitAgreement relative, or else k's chance below each of f's
+// 1, 5, 25, 50, 75, 95 and 99% points and below each stated value
+// within curveAgreement of f's.
+func sameCurve(k, f elicit.ScaledBeta, stated []float64) bool {
+	if k.Lower != f.Lower || k.Upper != f.Upper {
+		return false
+	}
+	if relDiff(k.Alpha, f.Alpha) <= fitAgreement && relDiff(k.Beta.Beta, f.Beta.Beta) <= fitAgreement {
+		return true
+	}
+	if k.Validate() != nil {
+		return false
+	}
+	for _, p := range curveProbes {
+		if !(math.Abs(k.CDF(f.Quantile(p))-p) <= curveAgreement) {
+			return false
+		}
+	}
+	for _, x := range stated {
+		if !(math.Abs(k.CDF(x)-f.CDF(x)) <= curveAgreement) {
+			return false
+		}
+	}
+	return true
+}
+
+// sameFit reports whether the Beta k the record keeps as the fit of an
+// answer is this version's fit f of it: sameCurve, and, where α and β lie
+// further apart than fitAgreement, k a least-squares fit of the answer
+// to within an earlier solver's tolerance (its objective within
+// sseAgreement of f's minimum).
+func sameFit(k elicit.ScaledBeta, f elicit.Fit) bool {
+	if !sameCurve(k, f.Dist, f.Stated) {
+		return false
+	}
+	if relDiff(k.Alpha, f.Dist.Alpha) <= fitAgreement && relDiff(k.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement {
+		return true
+	}
+	var sse float64
+	for i, x := range f.Stated {
+		r := k.CDF(x) - f.Probs[i]
+		sse += r * r
+	}
+	return sse <= f.SSE*(1+sseAgreement)+sseFloor
+}
 
 // RuleFitMismatch is the rule that a revision's fit is the fit of its
 // answer.
@@ -178,8 +257,7 @@ func (r Record) validate(fits []elicit.Fit) error {
 			return under(p+".answer", err)
 		}
 		if k := rv.Fit; k != nil {
-			if k.Dist.Lower != f.Dist.Lower || k.Dist.Upper != f.Dist.Upper ||
-				!(relDiff(k.Dist.Alpha, f.Dist.Alpha) <= fitAgreement) || !(relDiff(k.Dist.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement) {
+			if !sameFit(k.Dist, f) {
 				return inputErr(p+".fit", RuleFitMismatch, "the record says Beta(%g, %g) on [%g, %g], a fresh fit gives Beta(%g, %g) on [%g, %g]",
 					k.Dist.Alpha, k.Dist.Beta.Beta, k.Dist.Lower, k.Dist.Upper, f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper)
 			}
@@ -293,8 +371,7 @@ func checkConsensusFit(p string, ap workshop.AgreedPrior, q workshop.Question) e
 	if err != nil {
 		return under(p+".consensus", err)
 	}
-	if k := ap.Dist; k.Lower != f.Dist.Lower || k.Upper != f.Dist.Upper ||
-		!(relDiff(k.Alpha, f.Dist.Alpha) <= fitAgreement) || !(relDiff(k.Beta.Beta, f.Dist.Beta.Beta) <= fitAgreement) {
+	if k := ap.Dist; !sameFit(k, f) {
 		return inputErr(p+".dist", RuleFitMismatch, "the record says Beta(%g, %g) on [%g, %g], a fresh fit of its consensus gives Beta(%g, %g) on [%g, %g]",
 			k.Alpha, k.Beta.Beta, k.Lower, k.Upper, f.Dist.Alpha, f.Dist.Beta.Beta, f.Dist.Lower, f.Dist.Upper)
 	}
@@ -316,7 +393,8 @@ const RulePoolMismatch elicit.Rule = "does not match the single Beta of the pool
 // checkPoolPrior checks that a prior agreed from the pool, naming the
 // revisions it pooled, is the single Beta of their pool (elicit.LinearPool
 // of their fits, each weighted as its weight set gave the expert;
-// Pool.BestBeta), as the panel formed it: α and β to fitAgreement. A
+// Pool.BestBeta), as the panel formed it (sameCurve: α and β to
+// fitAgreement, or the curve to curveAgreement). A
 // prior from before Parley kept its pooled revisions names none and is
 // not checked.
 func checkPoolPrior(p string, ap workshop.AgreedPrior, fits map[int64]pooledFit, sets map[int64]workshop.Weights) error {
@@ -338,8 +416,7 @@ func checkPoolPrior(p string, ap workshop.AgreedPrior, fits map[int64]pooledFit,
 	if err != nil {
 		return inputErr(p+".pooled_revisions", RulePoolMismatch, "their pool has no single Beta: %v", err)
 	}
-	if k, f := ap.Dist, rep.Dist; k.Lower != f.Lower || k.Upper != f.Upper ||
-		!(relDiff(k.Alpha, f.Alpha) <= fitAgreement) || !(relDiff(k.Beta.Beta, f.Beta.Beta) <= fitAgreement) {
+	if k, f := ap.Dist, rep.Dist; !sameCurve(k, f, nil) {
 		return inputErr(p+".dist", RulePoolMismatch, "the record says Beta(%g, %g) on [%g, %g]; the pool of the revisions it names (%d) gives Beta(%g, %g) on [%g, %g]",
 			k.Alpha, k.Beta.Beta, k.Lower, k.Upper, len(ap.Pooled), f.Alpha, f.Beta.Beta, f.Lower, f.Upper)
 	}
