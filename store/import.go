@@ -69,8 +69,12 @@ func (db *DB) ImportChecked(ctx context.Context, c record.Checked) (int64, error
 			}
 		}
 		for i, rv := range rec.Revisions {
-			// The fresh fit, checked against the record's, is kept.
-			rv.Revision.Kept = &fits[i]
+			// The fresh fit, checked against the record's, is kept; an
+			// answer an earlier build saved under looser rules has none
+			// (record.EarlierRule) and is kept unfitted.
+			if fits[i].Dist.Alpha != 0 {
+				rv.Revision.Kept = &fits[i]
+			}
 			if err := imp.revision(rv.Revision); err != nil {
 				return err
 			}

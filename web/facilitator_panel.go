@@ -10,6 +10,7 @@ import (
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
 	"github.com/parley-elicit/parley/web/chart"
 )
@@ -186,7 +187,7 @@ func (d workshopData) state(q workshop.Question) questionState {
 		row := expertFitRow{Expert: m.Expert, Revision: m.Revision, Saves: m.Saves, Fit: m.Fit,
 			Pooled: m.Pooled, Weight: m.Weight, Share: m.Share}
 		if m.FitErr != nil {
-			row.FitError = m.FitErr.Error()
+			row.FitError = fitErrorWords(m.FitErr)
 		}
 		st.Rows = append(st.Rows, row)
 	}
@@ -528,4 +529,24 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 		back = questionPath(ws.ID, q.ID) + "/reasons"
 	}
 	http.Redirect(w, r, back, http.StatusSeeOther)
+}
+
+// fitErrorWords says why a saved answer is not fitted, for the
+// facilitator: the field, the rule and the value, without the package's
+// prefix, and, for an answer an earlier build of Parley saved under
+// looser rules (record.EarlierRule: this version never saves one), that
+// it was, so it does not read as today's save gone wrong.
+func fitErrorWords(err error) string {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return err.Error()
+	}
+	words := ie.Field + " " + string(ie.Rule)
+	if ie.Detail != "" {
+		words += " (" + ie.Detail + ")"
+	}
+	if record.EarlierRule(err) {
+		words = "saved by an earlier version of Parley, whose rules took it; today's rules refuse it: " + words
+	}
+	return words
 }

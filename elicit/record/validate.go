@@ -1,6 +1,7 @@
 package record
 
 import (
+	"errors"
 	"fmt"
 	"maps"
 	"math"
@@ -39,7 +40,9 @@ func (r Record) Validate() error {
 }
 
 // ValidateFits is Validate that also returns the fresh fit of every
-// revision, in the record's order, for the import to keep with it. A
+// revision, in the record's order, for the import to keep with it (the
+// zero Fit for an answer an earlier build saved under looser rules,
+// EarlierRule, which is kept unfitted). A
 // revision that carries its fit (every record Parley writes) is checked
 // against the fresh one (sameFit: the bounds exactly, and α and β to 1e-6
 // relative or, for a fit an earlier solver stopped elsewhere in the
@@ -134,6 +137,28 @@ func sameFit(k elicit.ScaledBeta, f elicit.Fit) bool {
 		sse += r * r
 	}
 	return sse <= f.SSE*(1+sseAgreement)+sseFloor
+}
+
+// EarlierRule reports whether err refuses an answer by a rule an earlier
+// build of Parley did not have: the rules that keep a judgement inside
+// the fit's accuracy envelope (values a hair from a bound or from each
+// other, a judgement no Beta in the search box fits), which came with
+// the Levenberg–Marquardt fit on 2026-12-02. Builds before them saved
+// such answers ("4.9e-324, 1e-323, 1.5e-323" on [0, 1]), and their
+// records, and the databases they wrote, upgraded and exported, must
+// still import (testdata/records/demo_7c8c05c_tiny.json). Such an answer
+// is kept in the record as it was saved and not fitted; every other
+// rule still refuses it.
+func EarlierRule(err error) bool {
+	var ie *elicit.InputError
+	if !errors.As(err, &ie) {
+		return false
+	}
+	switch ie.Rule {
+	case elicit.RuleValueNearBound, elicit.RuleValuesTooClose, elicit.RuleFitRange:
+		return true
+	}
+	return false
 }
 
 // RuleFitMismatch is the rule that a revision's fit is the fit of its
@@ -254,7 +279,18 @@ func (r Record) validate(fits []elicit.Fit) error {
 		}
 		f, err := q.Fit(rv.Answer)
 		if err != nil {
-			return under(p+".answer", err)
+			if !EarlierRule(err) {
+				return under(p+".answer", err)
+			}
+			// An answer an earlier build saved under looser rules: kept as
+			// it was saved, never fitted by this version (fits[i] stays
+			// the zero Fit; the panel says why, PanelMember.FitErr). A
+			// prior that pooled it pooled the earlier build's fit, which
+			// the record keeps.
+			if rv.Fit != nil {
+				pooled[rv.ID] = pooledFit{question: rv.QuestionID, expert: rv.ExpertID, dist: rv.Fit.Dist}
+			}
+			continue
 		}
 		if k := rv.Fit; k != nil {
 			if !sameFit(k.Dist, f) {
