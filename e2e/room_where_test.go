@@ -95,6 +95,8 @@ func TestPriorDisplayBackLinkReadsFromTheRoom(t *testing.T) {
 // on the screen. The demo's own title stays whole beside them at every
 // projector size: "a prior has been agreed; the pool has changed since:"
 // cut it short at 1024×768 ("…the HX-40 i…"). A long title is cut short.
+// Before the pool changes, the link reads in the same style, the same
+// words without the clause: "agreed prior: show it".
 func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
@@ -102,6 +104,19 @@ func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	fac := br.person("facilitator")
 	signIn(t, site, fac)
 	qp := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
+	// The demo's consensus prior: no pool to change.
+	const plain = "· agreed prior: show it"
+	fac.open(qp + "/room")
+	for _, s := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+		fac.viewport(s[0], s[1], false)
+		got := eval[roomWhere](fac, "the first line", readRoomWhere)
+		line := eval[string](fac, "the first line's words", `document.querySelector(".room-where").textContent.replace(/\s+/g, " ").trim()`)
+		if got.Lines > 1.2 || !got.LinkIn || got.Cut || !strings.HasSuffix(line, plain) {
+			t.Errorf("%d×%d, a consensus prior: the first line takes %.2f lines, the prior's link on the screen %v, the demo's title cut short %v; it reads %q, want it to end %q",
+				s[0], s[1], got.Lines, got.LinkIn, got.Cut, line, plain)
+		}
+		shots.take(fac, "room-prior-agreed-demo-"+strconv.FormatInt(s[0], 10))
+	}
 	fac.open(d.url + "/")
 	fac.postFromPage(qp+"/agree", "source=pool&confirm_open=on&rationale=The+pool+as+it+stands+%28invented%29.")
 	priyaSaves(t, site, d, "0.01", "0.06", "0.2")

@@ -71,11 +71,14 @@ func cutAtWord(text string, max int) (string, bool) {
 // where the pool the prior was agreed from has changed since
 // (poolChangeOf, the rule the display's notice follows): the header had
 // said only that a prior was agreed, and the room learned the rest only
-// on the display. priorLeadChanged is short: "a prior has been agreed;
-// the pool has changed since:" cut the invented demo's own title short on
-// a 1024×768 projector ("…the HX-40 i…"), the first line being one line.
+// on the display. Both begin with the same words, so that the room reads
+// the second as the first with one clause more: "a prior has been agreed:"
+// beside "agreed prior; its pool has changed since:" read as two styles.
+// priorLeadChanged is short: "a prior has been agreed; the pool has
+// changed since:" cut the invented demo's own title short on a 1024×768
+// projector ("…the HX-40 i…"), the first line being one line.
 const (
-	priorLead        = "a prior has been agreed:"
+	priorLead        = "agreed prior:"
 	priorLeadChanged = "agreed prior; its pool has changed since:"
 )
 

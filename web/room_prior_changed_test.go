@@ -121,7 +121,9 @@ func TestRoomPriorSaysThePoolChanged(t *testing.T) {
 // by the same rule (poolChangeOf): it had said only "a prior has been
 // agreed", and the room learned the rest only once the display was up.
 // A consensus prior has no pool to change; agreed again, the prior is
-// the pool's as it stands.
+// the pool's as it stands. The two links read in one style, the second
+// the first with a clause more: "a prior has been agreed: show it" stood
+// beside "agreed prior; its pool has changed since: show it".
 func TestRoomHeaderSaysThePoolChanged(t *testing.T) {
 	h, ws, qs, _, links := seeded(t)
 	q := qs[0]
@@ -143,7 +145,7 @@ func TestRoomHeaderSaysThePoolChanged(t *testing.T) {
 		_, shown := h.get(roomPath(ws.ID, q.ID) + "?show=prior")
 		return line, strings.Contains(shown, "The pool has changed since this prior was agreed")
 	}
-	const plain, changed = "· a prior has been agreed: show it", "· agreed prior; its pool has changed since: show it"
+	const plain, changed = "· agreed prior: show it", "· agreed prior; its pool has changed since: show it"
 	check := func(when string, wantChanged bool) {
 		t.Helper()
 		line, display := header()

@@ -59,7 +59,7 @@ func TestRoomShowsTheAgreedPrior(t *testing.T) {
 			"Caution. An elicited prior is documented judgement, not data.",
 		}
 	}
-	const lead = "a prior has been agreed: <a id=\"room-prior-link\""
+	const lead = "agreed prior: <a id=\"room-prior-link\""
 	// A question without a prior: no link, and a display that says so.
 	extra := h.addQuantileQuestion(t, ws.ID, "Added without a prior (invented)?", "spares used")
 	room := roomPath(ws.ID, extra.ID)
