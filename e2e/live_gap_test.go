@@ -96,6 +96,14 @@ func priyaSavesWith(t *testing.T, site *site, d demo, q workshop.Question, reaso
 // stream opens only after meanwhile.
 func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 	p.t.Helper()
+	p.openHoldingScript(address, "live.js", meanwhile, false)
+}
+
+// openHoldingScript opens address with /static/{script} held back until
+// meanwhile has run, then lets it load, or fails its request (fail): the
+// page as it stands before its script runs, or without it.
+func (p *person) openHoldingScript(address, script string, meanwhile func(), fail bool) {
+	p.t.Helper()
 	paused := make(chan fetch.RequestID, 1)
 	ctx, cancel := context.WithCancel(p.ctx)
 	defer cancel()
@@ -109,14 +117,14 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 	}); err != nil {
 		p.t.Fatal(err)
 	}
-	p.do("hold back live.js", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+	p.do("hold back "+script, chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
 		if _, err := cdp.Call(ctx, t, network.Enable, network.EnableParams{}); err != nil {
 			return err
 		}
 		if _, err := cdp.Call(ctx, t, network.SetCacheDisabled, network.SetCacheDisabledParams{CacheDisabled: true}); err != nil {
 			return err
 		}
-		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/static/live.js*", RequestStage: fetch.RequestStageRequest}}})
+		_, err := cdp.Call(ctx, t, fetch.Enable, fetch.EnableParams{Patterns: []*fetch.RequestPattern{{URLPattern: "*/static/" + script + "*", RequestStage: fetch.RequestStageRequest}}})
 		return err
 	}))
 	p.do("start loading "+address, chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
@@ -130,14 +138,20 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 	select {
 	case id = <-paused:
 	case <-time.After(stepTimeout):
-		p.t.Fatalf("%s: live.js was never requested", p.name)
+		p.t.Fatalf("%s: %s was never requested", p.name, script)
 	}
 	meanwhile()
-	p.do("let live.js load", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
-		if _, err := cdp.Call(ctx, t, fetch.ContinueRequest, fetch.ContinueRequestParams{RequestID: id}); err != nil {
+	p.do("let "+script+" load or fail", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		var err error
+		if fail {
+			_, err = cdp.Call(ctx, t, fetch.FailRequest, fetch.FailRequestParams{RequestID: id, ErrorReason: network.ErrorReasonFailed})
+		} else {
+			_, err = cdp.Call(ctx, t, fetch.ContinueRequest, fetch.ContinueRequestParams{RequestID: id})
+		}
+		if err != nil {
 			return err
 		}
-		_, err := cdp.Call(ctx, t, fetch.Disable, cdp.Empty{})
+		_, err = cdp.Call(ctx, t, fetch.Disable, cdp.Empty{})
 		return err
 	}))
 	p.waitFor("the page to load", `document.readyState === "complete"`)

@@ -10,6 +10,8 @@ import (
 	"testing"
 	"time"
 
+	"github.com/chromedp/cdproto/cdp"
+	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/input"
@@ -617,6 +619,9 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 				if err := fac.poll(stepTimeout, `document.fonts.status === "loaded"`); err != nil {
 					t.Fatal(err)
 				}
+				// The stream connected: on connecting, live.js takes away
+				// a notice put up before, as the one below.
+				fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
 				got := eval[sideReasons](fac, "the side's reasons", readSideReasons)
 				t.Logf("%s: %d listed, link shown %v", screen, got.Listed, got.LinkShow)
 				if (got.Listed == 0) == !got.LinkShow || (got.Listed != 0 && got.Listed != n) {
@@ -673,4 +678,85 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 			}
 		}
 	}
+}
+
+// TestRoomSideWaitsForItsPlace: four reasons of a line, which the server
+// puts behind the link for the smallest projector and room.js lists
+// beside the picture on a 1920×1080 one. room.js is loaded deferred, and
+// "4 reasons: show them" stood on the screen for a moment before the
+// reasons replaced it. Now the side is not seen until room.js has placed
+// it: held back, the side is hidden (the link with it); let through, the
+// reasons stand beside the picture, the link gone. Without script the
+// link shows at once and leads to the reasons; where the script fails to
+// load, the link shows once the wait ends (room.css).
+func TestRoomSideWaitsForItsPlace(t *testing.T) {
+	s := startSite(t)
+	ws, q := largePanelWith(t, s, 4, func(q *workshop.Question) {
+		q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
+	})
+	ctx := context.Background()
+	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+	if err != nil || len(latest) != 4 {
+		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+	}
+	for i, rv := range latest {
+		rv.ID, rv.Reason = 0, fmt.Sprintf("Invented: site %d's returns ran high in the hot months.", i+1)
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatal(err)
+	}
+	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	shots := newScreenshots(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	fac.viewport(1920, 1080, false)
+	// Seen: laid out with a box, and not hidden by visibility.
+	const seen = `(sel => { const e = document.querySelector(sel); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility === "visible"; })`
+	const styled = `Array.from(document.querySelectorAll('link[rel="stylesheet"]')).every(l => l.sheet !== null)`
+	fac.openHoldingScript(room, "room.js", func() {
+		if err := fac.poll(stepTimeout, styled); err != nil {
+			t.Fatalf("the stylesheets: %v", err)
+		}
+		if !eval[bool](fac, "the page before room.js", `document.querySelector(".room-side").getAttribute("data-beside") === "link"`) {
+			t.Fatal("the server did not choose the link: the test's reasons do not stand for what the room's smallest projector cannot hold")
+		}
+		shots.take(fac, "room-side-waits-1920")
+		if eval[bool](fac, "the link before room.js", seen+`(".room-reasons-more")`) {
+			t.Error("before room.js has placed the side, its link to the reasons is seen")
+		}
+	}, false)
+	if err := fac.poll(stepTimeout, seen+`(".room-reasons-beside")`); err != nil {
+		t.Errorf("once room.js has run, the reasons are not seen beside the picture: %v", err)
+	}
+	if eval[bool](fac, "the link after room.js", seen+`(".room-reasons-more")`) {
+		t.Error("once room.js has run, the link stands beside the reasons")
+	}
+	shots.take(fac, "room-side-placed-1920")
+
+	// The script fails to load: the server's choice once the wait ends.
+	fac.openHoldingScript(room, "room.js", func() {}, true)
+	if err := fac.poll(5*time.Second, seen+`(".room-reasons-more")`); err != nil {
+		t.Errorf("without room.js the link is not seen: %v", err)
+	}
+
+	// Without script: the link at once, and it leads to the reasons.
+	bare := fac.tab("the projector's tab without script")
+	bare.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
+		return err
+	}))
+	bare.viewport(1920, 1080, false)
+	bare.open(room)
+	if !eval[bool](bare, "the link without script", seen+`(".room-reasons-more")`) || eval[bool](bare, "the list without script", seen+`(".room-reasons-beside")`) {
+		t.Error("without script the side does not show the server's choice, the link alone")
+	}
+	if st := bare.load("follow the link", chromedp.Click(chromedp.CSS("#room-reasons-link"))); st != http.StatusOK || !strings.Contains(bare.url(), "show=reasons") {
+		t.Errorf("without script the link leads to %s (%d)", bare.url(), st)
+	}
+	bare.sees("the reasons display", "Invented: site 1's returns ran high in the hot months.")
+	shots.take(bare, "room-side-noscript-reasons-1920")
 }

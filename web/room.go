@@ -167,7 +167,7 @@ func (s *Server) roomView(w http.ResponseWriter, r *http.Request) {
 		layOutReasons(&v, room, show == "reasons", page)
 	}
 	m := pageMeta{Title: title + strconv.Itoa(q.Position) + " " + q.Quantity, Bare: true, BodyClass: "room",
-		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}}
+		Invented: ws.Invented, Scripts: []string{"/static/live.js", "/static/room.js"}, Styles: []string{"/static/room.css"}}
 	s.renderPage(w, r, http.StatusOK, m, roomPage(v))
 }
 

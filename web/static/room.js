@@ -32,6 +32,8 @@
 // on a phone the page scrolls, and it stands too. Laid out again when the
 // screen changes, when the room's notice above the foot bar comes or goes,
 // once the fonts are in, and after a live change brings the part anew.
+// The side is not seen until placed (room.css, data-placed), so that the
+// link does not stand for a moment where the reasons come.
 (function () {
   "use strict";
   var projector = window.matchMedia("(min-width: 60.01rem)");
@@ -41,6 +43,9 @@
     var more = side && side.querySelector(".room-reasons-more");
     if (!list || !more) { return; }
     var show = function (beside) { list.hidden = !beside; more.hidden = beside; };
+    try { choose(side, list, show); } finally { side.setAttribute("data-placed", ""); }
+  }
+  function choose(side, list, show) {
     if (!projector.matches) {
       show(side.getAttribute("data-beside") === "list");
       return;
