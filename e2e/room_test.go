@@ -498,14 +498,16 @@ func TestRoomFootBarOnAPhone(t *testing.T) {
 	}
 }
 
-// TestRoomPictureStandsUnderItsHeaderOnAPhone: on a phone the room's
-// picture stood under a blank band of some 40 px, the room its drawing
-// keeps above the plots for a revealed true value's label, which neither
-// the demo's question nor a large panel's (20 experts, chart.Spread) has.
-// Now the picture's first mark (the top tick label) stands within 16 px
-// of the header's foot (its margin and a few px of the drawing's own), at
-// 360 and 390 px, every label inside its picture.
-func TestRoomPictureStandsUnderItsHeaderOnAPhone(t *testing.T) {
+// TestRoomPictureStandsUnderItsHeader: the room's picture stood under a
+// blank band, some 40 px on a phone and 24 px on a 1920×1080 projector,
+// the room its drawings keep above the plots for a revealed true value's
+// label, which neither the demo's question nor a large panel's (20
+// experts, chart.Spread) has. Now the picture's first mark (the top tick
+// label) stands within 16 px of the header's foot on a phone (its margin
+// and a few px of the drawing's own), at 360 and 390 px, and within the
+// header's margin (1vh) and 12 px on a projector, at 1024×768, 1366×768
+// and 1920×1080; every label inside its picture, nothing off the screen.
+func TestRoomPictureStandsUnderItsHeader(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
 	shots := newScreenshots(t)
@@ -517,6 +519,17 @@ func TestRoomPictureStandsUnderItsHeaderOnAPhone(t *testing.T) {
 	if err := site.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
 		t.Fatal(err)
 	}
+	const band = `(() => {
+		const head = document.querySelector(".room-head").getBoundingClientRect();
+		const svg = Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).find(e => e.getClientRects().length > 0);
+		let top = Infinity;
+		for (const e of svg.querySelectorAll("text, line, path, rect")) {
+			if (e.closest("title, desc")) continue;
+			const r = e.getBoundingClientRect();
+			if (r.width > 0 || r.height > 0) top = Math.min(top, r.top);
+		}
+		return top - head.bottom;
+	})()`
 	for _, room := range []struct{ name, shot, url string }{
 		{"the demo's room", "demo", d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"},
 		{"a large panel's room", "large", site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"},
@@ -524,22 +537,21 @@ func TestRoomPictureStandsUnderItsHeaderOnAPhone(t *testing.T) {
 		fac.open(room.url)
 		for _, w := range []int64{360, phoneWidth} {
 			fac.viewport(w, phoneHeight, true)
-			band := eval[float64](fac, "the band above the picture", `(() => {
-				const head = document.querySelector(".room-head").getBoundingClientRect();
-				const svg = Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).find(e => e.getClientRects().length > 0);
-				let top = Infinity;
-				for (const e of svg.querySelectorAll("text, line, path, rect")) {
-					if (e.closest("title, desc")) continue;
-					const r = e.getBoundingClientRect();
-					if (r.width > 0 || r.height > 0) top = Math.min(top, r.top);
-				}
-				return top - head.bottom;
-			})()`)
-			if band > 16 {
-				t.Errorf("%s at %d px: the picture starts %.0f px under its header", room.name, w, band)
+			if b := eval[float64](fac, "the band above the picture", band); b > 16 {
+				t.Errorf("%s at %d px: the picture starts %.0f px under its header", room.name, w, b)
 			}
 			fits(t, fac, room.name, w)
 			shots.take(fac, fmt.Sprintf("room-phone-top-%s-%d", room.shot, w))
+		}
+		for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+			fac.viewport(sz[0], sz[1], false)
+			b := eval[float64](fac, "the band above the picture", band)
+			t.Logf("%s at %d×%d: the picture starts %.1f px under its header", room.name, sz[0], sz[1], b)
+			if most := float64(sz[1])/100 + 12; b > most {
+				t.Errorf("%s at %d×%d: the picture starts %.0f px under its header, want at most %.0f", room.name, sz[0], sz[1], b, most)
+			}
+			fitsScreen(t, fac, int(sz[0]), int(sz[1]))
+			shots.take(fac, fmt.Sprintf("room-top-%s-%d", room.shot, sz[0]))
 		}
 	}
 }

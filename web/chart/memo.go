@@ -42,7 +42,7 @@ type pathKey struct {
 	dist        elicit.ScaledBeta
 	x0, x1, top float64
 	area        bool
-	layout      string
+	layout      layout // the whole layout, as frameKey's
 }
 
 // paths are a curve's SVG path data in both plots.

@@ -225,21 +225,36 @@ func PanelNotes(v PanelView) []string {
 	return newTwinIn(wideLayout, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent).Notes
 }
 
-// roomTopMargin is what the room's compact drawing (a phone's) keeps
-// above its plots where no true value's label stands there: the top tick
-// label's upper half and a little air. The layout's 44 units above the
-// plots keep room for that label, and the room's picture stood on a
-// phone under a blank band of some 40 px.
+// roomTopMargin is what the room's drawings keep above their plots where
+// no true value's label stands there: the top tick label's upper half and
+// a little air. The layouts' room above the plots (44 units compact, 34
+// wide) keeps room for that label, and the room's picture stood under a
+// blank band: some 40 px on a phone, some 30 on a 1920×1080 projector.
 const roomTopMargin = 12
 
 // top is where d's picture starts: roomTopMargin above its plots for the
 // room's compact drawing with no true value's label above them, else at
 // 0. A large panel's room picture (SpreadView.Room) starts there too.
+// The room's wide drawing gives that room to its plots instead
+// (roomWide), and starts at 0.
 func (d panelDrawing) top(room bool) float64 {
 	if room && d.Twin.Layout.Name == compactLayout.Name && d.Truth == nil {
 		return d.Twin.Layout.Top - roomTopMargin
 	}
 	return 0
+}
+
+// roomWide is the wide layout l in the room with no true value's label
+// above the plots: the room kept for that label, but roomTopMargin, goes
+// to the plots, shared as their heights are. On a projector the picture's
+// width sets its size (it stands beside the median strip), so a picture
+// started lower down its band kept the same height and left the band
+// empty under the notes instead; its plots now take it.
+func roomWide(l layout) layout {
+	spare := l.Top - roomTopMargin
+	dens := math.Round(spare * l.DensityH / (l.DensityH + l.CDFH))
+	l.Top, l.DensityH, l.CDFH = roomTopMargin, l.DensityH+dens, l.CDFH+spare-dens
+	return l
 }
 
 func newPanelModel(v PanelView) panelModel {
@@ -260,6 +275,9 @@ func newPanelModel(v PanelView) panelModel {
 	for i, lay := range layouts {
 		if v.Room {
 			lay.TickPx = roomTickPx
+			if lay.Name == wideLayout.Name && v.truth() == nil {
+				lay = roomWide(lay)
+			}
 		}
 		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 		if i > 0 {

@@ -162,7 +162,7 @@ func TestTickLabelsStayInsideThePicture(t *testing.T) {
 			room = append(room, lay)
 		}
 		for _, lay := range room {
-			k := frameKey{layout: lay.Name, tickPx: lay.tickPx(), quantity: "q", lower: lower, upper: upper, x0: x0, x1: x1, top: 1, percent: percent}
+			k := frameKey{layout: lay, tickPx: lay.tickPx(), quantity: "q", lower: lower, upper: upper, x0: x0, x1: x1, top: 1, percent: percent}
 			dens := frame{Left: lay.Left, Top: lay.Top, Width: lay.PlotW, Height: lay.DensityH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 			cumul := frame{Left: lay.Left, Top: lay.Top + lay.DensityH + lay.Gap, Width: lay.PlotW, Height: lay.CDFH, X0: x0, X1: x1, Y0: 0, Y1: 1}
 			g := newTwinFrame(lay, k, dens, cumul)

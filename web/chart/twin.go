@@ -155,7 +155,9 @@ type twinFrame struct {
 
 // frameKey is everything a twinFrame depends on.
 type frameKey struct {
-	layout          string
+	// layout is the whole layout, not its name: the room's wide drawing
+	// draws its plots taller than the page's (roomWide).
+	layout          layout
 	tickPx          float64 // the x tick labels' font size (layout.tickPx)
 	quantity, units string
 	lower, upper    float64
@@ -342,7 +344,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 		}
 		var p paths
 		if b, ok := c.beta(); ok {
-			p = remembered.drawn.Get(pathKey{b, x0, x1, top, area, lay.Name}, draw)
+			p = remembered.drawn.Get(pathKey{b, x0, x1, top, area, lay}, draw)
 		} else {
 			p = draw()
 		}
@@ -355,7 +357,7 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 		}
 	}
 
-	key := frameKey{layout: lay.Name, tickPx: lay.tickPx(), quantity: quantity, units: units, lower: lower, upper: upper,
+	key := frameKey{layout: lay, tickPx: lay.tickPx(), quantity: quantity, units: units, lower: lower, upper: upper,
 		x0: x0, x1: x1, top: top, upperTitle: w.Upper, lowerTitle: w.Lower, percent: percent, unnumbered: w.Unnumbered}
 	if len(g.ClippedBy) > 0 {
 		key.cut = w.Cut(formatSig(top, 3), proseList(g.ClippedBy))
