@@ -1,0 +1,79 @@
+package e2e
+
+import (
+	"fmt"
+	"strconv"
+	"testing"
+)
+
+// roomSmallPrint is the room view's least type a projector must read: the
+// keys' hint at the foot and the banner that the data are invented, in
+// px, and the banner's lines.
+type roomSmallPrint struct {
+	Keys         float64 `json:"keys"`
+	Banner       float64 `json:"banner"`
+	BannerLines  float64 `json:"bannerLines"`
+	KeysLines    float64 `json:"keysLines"`
+	MedianLetter float64 `json:"medianLetter"` // the median strip's letters, 0 where none is drawn
+}
+
+const readRoomSmallPrint = `(() => {
+	const px = e => parseFloat(getComputedStyle(e).fontSize);
+	const lines = e => {
+		const s = getComputedStyle(e);
+		return (e.getBoundingClientRect().height - parseFloat(s.paddingTop) - parseFloat(s.paddingBottom) - parseFloat(s.borderTopWidth) - parseFloat(s.borderBottomWidth)) / parseFloat(s.lineHeight);
+	};
+	const keys = document.querySelector(".room-keys"), banner = document.querySelector(".banner-invented");
+	const letter = Array.from(document.querySelectorAll(".room-side .chart-medians svg .median-label")).find(e => e.getClientRects().length > 0);
+	const svg = letter && letter.closest("svg");
+	return {keys: px(keys), banner: px(banner), bannerLines: lines(banner), keysLines: lines(keys),
+		medianLetter: letter ? px(letter) * svg.getBoundingClientRect().width / svg.viewBox.baseVal.width : 0};
+})()`
+
+// TestRoomSmallPrintReadsOnAProjector: at 1920×1080 the keys' hint at the
+// room view's foot read at 16.9 px and the banner that the workshop is
+// invented at 17.3 px, under every other word on the screen. On a screen
+// that wide they are now set in the smallest type the room uses (1.05vw,
+// 20.2 px), on the picture, the prior display and the reasons display,
+// each on one line; the median strip's letters keep their 18 px (their
+// size is the strip's own); and every state still fits its screen without
+// scrolling at 1024×768, 1366×768 and 1920×1080, where the smaller
+// screens keep their sizes.
+func TestRoomSmallPrintReadsOnAProjector(t *testing.T) {
+	site, d := startDemo(t)
+	br := startBrowser(t)
+	shots := newScreenshots(t)
+	fac := br.person("facilitator")
+	signIn(t, site, fac)
+	fac.open(d.url + "/")
+	fac.postFromPage(d.url+"/round", "action=close")
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+	for _, st := range []struct{ name, query string }{{"picture", ""}, {"prior", "?show=prior"}, {"reasons", "?show=reasons&page=1"}} {
+		for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
+			fac.viewport(sz[0], sz[1], false)
+			fac.open(room + st.query)
+			got := eval[roomSmallPrint](fac, "the room's small print", readRoomSmallPrint)
+			t.Logf("the %s at %d×%d: keys %.1f px (%.2f lines), banner %.1f px (%.2f lines), median letters %.1f px", st.name, sz[0], sz[1], got.Keys, got.KeysLines, got.Banner, got.BannerLines, got.MedianLetter)
+			if sz[0] == 1920 {
+				if got.Keys < 20 || got.Banner < 20 {
+					t.Errorf("the %s at 1920×1080: the keys' hint in %.1f px, the banner in %.1f px; want at least 20", st.name, got.Keys, got.Banner)
+				}
+				if st.name == "picture" && (got.MedianLetter < 17.5 || got.MedianLetter > 18.5) {
+					t.Errorf("the picture at 1920×1080: the median strip's letters at %.1f px, want their 18", got.MedianLetter)
+				}
+			}
+			if got.BannerLines > 1.2 || got.KeysLines > 1.2 {
+				t.Errorf("the %s at %d×%d: the banner takes %.2f lines, the keys' hint %.2f; want one each", st.name, sz[0], sz[1], got.BannerLines, got.KeysLines)
+			}
+			if st.name == "reasons" {
+				// No picture here: the page itself is the screen.
+				if sw, sh := eval[int](fac, "page width", `document.documentElement.scrollWidth`), eval[int](fac, "page height", `document.documentElement.scrollHeight`); sw > int(sz[0]) || sh > int(sz[1]) {
+					t.Errorf("the reasons at %d×%d: the page is %d×%d px", sz[0], sz[1], sw, sh)
+				}
+			} else {
+				fitsScreen(t, fac, int(sz[0]), int(sz[1]))
+			}
+			shots.take(fac, fmt.Sprintf("room-small-print-%s-%d", st.name, sz[0]))
+		}
+	}
+}
