@@ -96,7 +96,8 @@ func TestPriorDisplayBackLinkReadsFromTheRoom(t *testing.T) {
 // projector size: "a prior has been agreed; the pool has changed since:"
 // cut it short at 1024×768 ("…the HX-40 i…"). A long title is cut short.
 // Before the pool changes, the link reads in the same style, the same
-// words without the clause: "agreed prior: show it".
+// words without the clause: "agreed prior: show it". On a phone the line
+// wraps, and the link's two words stay together.
 func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
@@ -117,6 +118,14 @@ func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 		}
 		shots.take(fac, "room-prior-agreed-demo-"+strconv.FormatInt(s[0], 10))
 	}
+	// The line wraps on a phone; the link's two words stay together
+	// ("show" ended the line and "it" stood alone under it).
+	linkLines := `document.getElementById("room-prior-link").getClientRects().length`
+	fac.viewport(phoneWidth, phoneHeight, true)
+	if n := eval[int](fac, "the link's lines", linkLines); n != 1 {
+		t.Errorf("on a phone, a consensus prior: the link \"show it\" takes %d lines", n)
+	}
+	shots.take(fac, "room-prior-agreed-demo-390")
 	fac.open(d.url + "/")
 	fac.postFromPage(qp+"/agree", "source=pool&confirm_open=on&rationale=The+pool+as+it+stands+%28invented%29.")
 	priyaSaves(t, site, d, "0.01", "0.06", "0.2")
@@ -153,5 +162,9 @@ func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
 	}
 	fac.viewport(phoneWidth, phoneHeight, true)
 	fac.sees("the first line on a phone", "its pool has changed since")
+	// The line wraps on a phone; the link's two words stay together.
+	if n := eval[int](fac, "the link's lines", linkLines); n != 1 {
+		t.Errorf("on a phone, the pool changed: the link \"show it\" takes %d lines", n)
+	}
 	shots.take(fac, "room-pool-changed-390")
 }
