@@ -63,3 +63,30 @@ func TestRecordsOfEarlierBuildsImport(t *testing.T) {
 		})
 	}
 }
+
+// A database an earlier build wrote, holding an answer that build took
+// and today's rules refuse (testdata/records/demo_7c8c05c_tiny.db, as
+// that build left it), upgrades when this version opens it and exports
+// a record that imports: its export had been refused by the import at
+// the answer's values.
+func TestADatabaseOfAnEarlierBuildUpgradesAndItsRecordImports(t *testing.T) {
+	b, err := os.ReadFile("../../testdata/records/demo_7c8c05c_tiny.db")
+	check(t, err)
+	db := filepath.Join(t.TempDir(), "old.db")
+	check(t, os.WriteFile(db, b, 0o600))
+	out := filepath.Join(t.TempDir(), "upgraded.json")
+	if code, _, errs := run("export", "--db", db, "--workshop", "1", "--format", "json", "--out", out); code != exitOK {
+		t.Fatalf("export of the old database: exit %d: %s", code, errs)
+	}
+	js, err := os.ReadFile(out)
+	check(t, err)
+	if !strings.Contains(string(js), "5e-324") {
+		t.Fatal("the upgraded database's record lacks the answer of 4.9e-324")
+	}
+	if code, _, errs := run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", out); code != exitOK {
+		t.Fatalf("import of the upgraded database's record: exit %d: %s", code, errs)
+	}
+	if code, _, errs := run("export", "--db", db, "--workshop", "1", "--format", "csv"); code != exitOK {
+		t.Fatalf("CSV export of the upgraded database: exit %d: %s", code, errs)
+	}
+}

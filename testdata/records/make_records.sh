@@ -6,7 +6,7 @@
 # build. A commit written COMMIT:tiny also saves, through the first
 # expert's private link, an answer of three values a hair above 0 to
 # question 1 (which that build took and today's rules refuse), and
-# writes demo_COMMIT_tiny.json. Run from anywhere inside the repository;
+# writes demo_COMMIT_tiny.json and the database, demo_COMMIT_tiny.db. Run from anywhere inside the repository;
 # needs Go, gcc (cgo) and curl.
 #   testdata/records/make_records.sh 2356720 7c8c05c 6f74401 868acb0 3718eac 7c8c05c:tiny
 set -eu
@@ -34,4 +34,8 @@ for arg in "$@"; do
   fi
   kill "$pid"; wait "$pid" 2>/dev/null || true
   "$tmp/parley-$c" export --db "$tmp/$name.db" --workshop 1 --format json --out "$out/demo_$name.json"
+  if [ "$name" != "$c" ]; then
+    # The database itself, as that build left it, for the upgrade test.
+    cp "$tmp/$name.db" "$out/demo_$name.db"
+  fi
 done
