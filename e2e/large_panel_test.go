@@ -15,7 +15,6 @@ import (
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestLargePanelPages opens a 60-expert question as the facilitator at a
@@ -127,46 +126,13 @@ func largePanel(t *testing.T, s *site, n int) (workshop.Workshop, workshop.Quest
 }
 
 // largePanelWith is largePanel with the question changed by set before it
-// is saved (nil: as it is).
+// is saved (nil: as it is). The medians spread evenly from 0.04 towards
+// 0.24.
 func largePanelWith(t *testing.T, s *site, n int, set func(*workshop.Question)) (workshop.Workshop, workshop.Question) {
 	t.Helper()
-	ctx := context.Background()
-	ws := workshop.Workshop{Title: "Invented: a large reliability panel", Invented: true,
-		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
-	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
-		t.Fatal(err)
-	}
-	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
-		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
-		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
-	if set != nil {
-		set(&q)
-	}
-	if err := s.DB.AddQuestion(ctx, &q); err != nil {
-		t.Fatal(err)
-	}
-	for i := 0; i < n; i++ {
-		_, hash, err := web.NewExpertToken()
-		if err != nil {
-			t.Fatal(err)
-		}
-		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
-		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
-			t.Fatal(err)
-		}
-		m := 0.04 + 0.2*float64(i)/float64(n)
-		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
-			Reason: fmt.Sprintf("Invented: field returns of a similar seal, site %d.", i+1)}
-		f, err := q.Fit(rv.Answer)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rv.Kept = &f
-		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
-	return ws, q
+	return sealPanel{title: "Invented: a large reliability panel", set: set,
+		median: func(i int) float64 { return 0.04 + 0.2*float64(i)/float64(n) },
+		reason: "Invented: field returns of a similar seal, site %d."}.add(t, s, n)
 }
 
 // TestLargePanelCellsKeepDatesAndValuesWhole: a large panel's tables

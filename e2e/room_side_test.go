@@ -6,9 +6,6 @@ import (
 	"net/http"
 	"strconv"
 	"testing"
-
-	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // convergedPanel is an invented panel of n experts after Delphi rounds:
@@ -16,46 +13,18 @@ import (
 // apart. Every expert gives a reason of a line. The round is closed.
 func convergedPanel(t *testing.T, s *site, n int) string {
 	t.Helper()
-	ctx := context.Background()
-	ws := workshop.Workshop{Title: "Invented: a converged panel", Invented: true,
-		Purpose: "Invented: a prior for the first-year failure share of a new pump seal."}
-	if err := s.DB.CreateWorkshop(ctx, &ws); err != nil {
-		t.Fatal(err)
-	}
-	q := workshop.Question{WorkshopID: ws.ID, Wording: "What share of the new seals will fail in their first year?",
-		Quantity: "first-year failure share", Units: "proportion of seals", Lower: 0, Upper: 1,
-		Format: workshop.FormatQuantiles, Probs: workshop.ProbsDefault}
-	if err := s.DB.AddQuestion(ctx, &q); err != nil {
-		t.Fatal(err)
-	}
-	for i := 0; i < n; i++ {
-		_, hash, err := web.NewExpertToken()
-		if err != nil {
-			t.Fatal(err)
-		}
-		e := workshop.Expert{WorkshopID: ws.ID, Name: fmt.Sprintf("Invented engineer %02d", i+1)}
-		if err := s.DB.AddExpert(ctx, &e, hash); err != nil {
-			t.Fatal(err)
-		}
+	ws, q := sealPanel{title: "Invented: a converged panel",
 		// Invented: one in six stands apart (0.05 to 0.25); the rest
 		// converged on 0.10 to 0.13, in steps of 0.005, so that some
 		// give the same median.
-		m := 0.10 + 0.005*float64(i%7)
-		if i%6 == 5 {
-			m = 0.05 + 0.04*float64(i/6)
-		}
-		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{m / 2, m, 1.8 * m}},
-			Reason: fmt.Sprintf("Invented: returns of a similar seal, site %d.", i+1)}
-		f, err := q.Fit(rv.Answer)
-		if err != nil {
-			t.Fatal(err)
-		}
-		rv.Kept = &f
-		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		median: func(i int) float64 {
+			if i%6 == 5 {
+				return 0.05 + 0.04*float64(i/6)
+			}
+			return 0.10 + 0.005*float64(i%7)
+		},
+		reason: "Invented: returns of a similar seal, site %d."}.add(t, s, n)
+	if err := s.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
 		t.Fatal(err)
 	}
 	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
