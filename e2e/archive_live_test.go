@@ -19,11 +19,8 @@ import (
 // workshop now, as the Rounds card does. A fold the facilitator opened
 // (the details' form) stays open as changes arrive.
 func TestArchiveFollowsALiveChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	_, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/")
 	panel := fac.tab("the panel")

@@ -14,10 +14,7 @@ import (
 // "answered (1" over "save)". A cell may wrap before its count, never
 // inside it.
 func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)
 		fac.open(d.url + "/")
@@ -125,10 +122,7 @@ func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
 // other pictures do: every row's label and shift on the screen, none
 // smaller than 11 px, nothing to scroll.
 func TestSteadinessPictureOnAPhone(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	fac.viewport(390, 844, true)
 	fac.open(d.url + "/calibration")
 	if n := fac.count(".chart-steadiness .steady-shift"); n == 0 {
@@ -156,10 +150,7 @@ func TestSteadinessPictureOnAPhone(t *testing.T) {
 // (the buttons' own alignment overrode the row's). Each inline form's
 // button now ends level with its field's input or list.
 func TestInlineFormButtonsSitLevelWithTheirField(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	for _, page := range []string{d.url + "/calibration", d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)} {
 		fac.open(page)

@@ -92,6 +92,18 @@ func startDemoWith(t *testing.T, opt web.Options) (*site, demo) {
 	return s, d
 }
 
+// facilitatorOnDemo starts the invented demo workshop on a loopback
+// server and a headless browser, and signs the facilitator in: the set-up
+// of most tests of the facilitator's pages.
+func facilitatorOnDemo(t *testing.T) (*site, demo, *person) {
+	t.Helper()
+	s, d := startDemo(t)
+	br := startBrowser(t)
+	fac := br.person("facilitator")
+	signIn(t, s, fac)
+	return s, d, fac
+}
+
 // startSite opens a new database in a temp dir, issues the facilitator
 // secret the way `parley serve` does, and serves it on 127.0.0.1:0.
 func startSite(t *testing.T) *site {

@@ -164,10 +164,7 @@ func (p *person) openHoldingScript(address, script string, meanwhile func(), fai
 // stood still while they said they followed new answers. They follow
 // their own address now.
 func TestLivePageFollowsAfterARefusedForm(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	site, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	fac.open(panel)
@@ -303,10 +300,7 @@ func TestLivePageFetchesAgainAfterAFailedFetch(t *testing.T) {
 // roster under it still said "3 of 6 have a current answer" beside a row
 // of four answers: one screen, two counts.
 func TestOverviewRosterFollowsALiveSave(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	site, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/")
 	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
@@ -358,10 +352,7 @@ func TestLivePageCutsItsWaitShortOnAChange(t *testing.T) {
 // command of Chromium's in the facilitator's tab).
 func roomWithFetchesCaught(t *testing.T) (*site, demo, *person, <-chan fetch.RequestID, func(string, func(context.Context, *chromedp.Target) error)) {
 	t.Helper()
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	site, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 768, false)
 	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
 	fac.open(room)

@@ -18,10 +18,7 @@ import (
 // blur fetches the page only when it frees a part held; a part held by its
 // focus is still brought up to date when the focus leaves it.
 func TestRefusedFormHeldFetchesNothingOnBlur(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	site, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	priyaSaves(t, site, d, "0.02", "0.05", "0.12") // a reason to withhold
 	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))

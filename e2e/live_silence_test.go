@@ -219,10 +219,7 @@ func (px *sleepyProxy) wake() {
 // anew and follows again (a page's own stream; the shared worker's is the
 // same code).
 func TestLivePageNoticesASleepByTheWallClock(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	fac.do("a browser without shared workers, and a wall clock to move", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
 		_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{

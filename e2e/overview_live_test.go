@@ -19,11 +19,8 @@ import (
 // workshop now; a refused round form, shown with its message, is left as
 // it is while other changes arrive.
 func TestOverviewRoundsAndAccessFollowALiveChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	_, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/")
 	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)

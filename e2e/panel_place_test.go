@@ -16,10 +16,7 @@ import (
 // the reasons) pushed it down. The history's heading stays where it was
 // on the screen, at the projector's width and on a phone.
 func TestPanelKeepsItsPlaceOnALiveChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	site, d, fac := facilitatorOnDemo(t)
 	heading := `document.querySelector("#history h2").getBoundingClientRect().top`
 	for i, size := range []struct {
 		w, h   int64

@@ -236,10 +236,7 @@ func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
 	if _, err := exec.LookPath("pdftotext"); err != nil {
 		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
 	}
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	fac.open(d.url + "/")
 	// The walk of a whole workshop: round 1 closed, round 2 opened, the
 	// true values revealed, performance weights chosen, the pool agreed,

@@ -57,11 +57,8 @@ const readPriorDisplay = `(() => {
 // stand beside it in words, in the state line's type. And nothing on the
 // display scrolls, overlaps or leaves the screen.
 func TestPriorDisplayKeepsItsPicture(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	site, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
 	q := d.qs[0]
 	qp := d.url + "/q/" + strconv.FormatInt(q.ID, 10)
 	agree := func(rationale string) {

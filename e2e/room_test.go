@@ -460,10 +460,7 @@ func overlappingWords(p *person) []string {
 // enough to tap (44 px); the line about the keys, which a phone has none
 // of, had squeezed each link onto three lines. At 1366 px it is there.
 func TestRoomFootBarOnAPhone(t *testing.T) {
-	s, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	room := d.url + "/q/" + strconv.FormatInt(d.qs[1].ID, 10) + "/room"
 	type link struct {
 		Text   string
@@ -508,11 +505,8 @@ func TestRoomFootBarOnAPhone(t *testing.T) {
 // header's margin (1vh) and 12 px on a projector, at 1024×768, 1366×768
 // and 1920×1080; every label inside its picture, nothing off the screen.
 func TestRoomPictureStandsUnderItsHeader(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	site, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
 	fac.open(d.url + "/")
 	fac.postFromPage(d.url+"/round", "action=close")
 	ws, q := largePanelWith(t, site, 20, nil)

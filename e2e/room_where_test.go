@@ -99,11 +99,8 @@ func TestPriorDisplayBackLinkReadsFromTheRoom(t *testing.T) {
 // words without the clause: "agreed prior: show it". On a phone the line
 // wraps, and the link's two words stay together.
 func TestRoomFirstLineSaysThePoolChanged(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	site, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
 	qp := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	// The demo's consensus prior: no pool to change.
 	const plain = "· agreed prior: show it"

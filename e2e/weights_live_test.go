@@ -17,10 +17,7 @@ import (
 // weak ground": one screen, two contradicting accounts of the weights.
 // The card's account of the weights in force follows the change now.
 func TestPanelWeightsFollowALiveChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
 	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	for _, w := range []int64{1366, 390} {
@@ -57,10 +54,7 @@ func TestPanelWeightsFollowALiveChange(t *testing.T) {
 // account of the prior in force follows the change now (its form stays
 // as it is).
 func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
 	panel := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	for i, w := range []int64{1366, 390} {
@@ -89,10 +83,7 @@ func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
 // edge. Each weight set is now a block of labelled lines, as the other
 // wide tables are on a phone.
 func TestWeightHistoryOnAPhone(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	_, d, fac := facilitatorOnDemo(t)
 	shots := newScreenshots(t)
 	fac.open(d.url + "/")
 	fac.postFromPage(d.url+"/calibration/weights", "scheme=performance&reason=Classical+model+weights+%28invented%29.")
