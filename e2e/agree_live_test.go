@@ -32,7 +32,7 @@ func TestAgreeThePoolShownAfterALiveUpdateInBrowser(t *testing.T) {
 	if st := fac.open(panel); st != http.StatusOK {
 		t.Fatalf("panel: %d", st)
 	}
-	fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the live stream to connect")
 	const seen = `document.querySelector("#panel-live input[name=pool_seen][form=agree-form]").value`
 	before := eval[string](fac, "the pool shown", seen)
 	fac.fill(`#agree-form`, "rationale", "The pool as the room saw it (invented).")

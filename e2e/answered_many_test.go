@@ -33,9 +33,7 @@ func TestAnsweredTableOfManyQuestions(t *testing.T) {
 		t.Fatal(err)
 	}
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	fac.viewport(1366, 900, false)
 	if st := fac.open(d.url); st != http.StatusOK {
 		t.Fatalf("overview: %d", st)

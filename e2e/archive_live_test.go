@@ -27,7 +27,7 @@ func TestArchiveFollowsALiveChange(t *testing.T) {
 	panel.viewport(1366, 900, false)
 	panel.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
 	for _, p := range []*person{fac, panel} {
-		p.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+		p.liveConnected("the stream")
 	}
 	other := fac.tab("another tab")
 	other.open(d.url + "/")
@@ -128,9 +128,7 @@ func jsState(vals ...any) string {
 // added or the workshop archived in another tab never reached it.
 func TestEmptyWorkshopOverviewFollowsALiveChange(t *testing.T) {
 	site := startSite(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	fac.viewport(1366, 900, false)
 	fac.postFromPage("/workshops", "title=Empty+for+now+%28invented%29")
 	wss, err := site.DB.Workshops(context.Background())
@@ -147,7 +145,7 @@ func TestEmptyWorkshopOverviewFollowsALiveChange(t *testing.T) {
 		t.Fatal("the new workshop was not saved")
 	}
 	fac.open(address + "/")
-	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the overview's stream")
 	shots := newScreenshots(t)
 	shots.take(fac, "empty-overview-1366")
 	fac.viewport(phoneWidth, phoneHeight, true)

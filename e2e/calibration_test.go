@@ -231,9 +231,7 @@ func TestSteadinessTableOfManyQuestionsFits(t *testing.T) {
 			}
 		}
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	for _, w := range []int64{1280, 1366} {
 		fac.viewport(w, 900, false)
 		fac.open(d.url + "/calibration")

@@ -53,9 +53,7 @@ func TestOverviewCellsKeepTheirCountWhole(t *testing.T) {
 func TestDemoTablesOnAPhone(t *testing.T) {
 	site, d := startDemo(t)
 	es, qs, wsURL := d.experts, d.qs, d.url
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	fac.viewport(390, 844, true)
 	shots := newScreenshots(t)
 	for _, c := range []struct{ name, url, table string }{
@@ -96,9 +94,7 @@ func TestDemoTablesOnAPhone(t *testing.T) {
 func TestStudyComparisonKeepsEachBetaWhole(t *testing.T) {
 	site, d := startDemo(t)
 	qs := d.qs
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)
 		fac.open(d.url + "/q/" + strconv.FormatInt(qs[0].ID, 10) + "/study?trials=100")
@@ -193,9 +189,7 @@ func TestRoundsCardKeepsItsButtonApart(t *testing.T) {
 	if err := site.DB.SetRound(context.Background(), d.w.ID, 1, false, ""); err != nil {
 		t.Fatal(err)
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)
 		fac.open(d.url + "/")
@@ -221,9 +215,7 @@ func TestWorkshopListKeepsEachDateWhole(t *testing.T) {
 	if err := site.DB.CreateWorkshop(ctx, &w); err != nil {
 		t.Fatal(err)
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	shots := newScreenshots(t)
 	for _, width := range append(append([]int64{}, phoneWidths...), 1366) {
 		fac.viewport(width, 900, width < 600)

@@ -28,7 +28,7 @@ func followingExpert(t *testing.T, i int, onQuestion bool) (demo, *person, *pers
 		page += "q/" + strconv.FormatInt(d.qs[0].ID, 10)
 	}
 	ex.open(page)
-	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	ex.liveConnected("the stream")
 	return d, fac, ex
 }
 
@@ -256,7 +256,7 @@ func TestExpertPageForgetsTheExpertOnceItsLinkEnds(t *testing.T) {
 	ex.fill("form.answer-form", "reason", "Saved reasoning, to be forgotten (invented).")
 	ex.do("save", chromedp.Click(chromedp.CSS("#save-live button")))
 	ex.waitFor("the answer saved", `!!document.querySelector("#saved") && document.querySelectorAll("#history-live tbody tr").length > 0`)
-	ex.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	ex.liveConnected("the stream")
 
 	// A draft typed over it, not saved.
 	draft := map[string]string{}

@@ -44,7 +44,7 @@ func followingFacilitator(t *testing.T, name, page string) (d demo, s *site, fac
 	other.open(d.url + "/")
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + strings.ReplaceAll(page, "{expert}", strconv.FormatInt(id, 10)))
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	// The page as loaded: a reload would lose this.
 	eval[bool](fac, "mark the page", `window.loadedOnce = true`)
 	return d, s, fac, other, ex, id, link
@@ -245,14 +245,12 @@ func TestCalibrationPageChangesLayoutAsAWhole(t *testing.T) {
 		return q
 	}
 	added := waiting("trial batch")
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	other := fac.tab("another tab")
 	other.open(d.url + "/")
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/calibration")
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	eval[bool](fac, "mark the page", `window.loadedOnce = true`)
 	shots := newScreenshots(t)
 	if fac.count("#scores-table") != 0 || fac.count("#calibration-tail-live #weights-form-live") != 1 {

@@ -98,10 +98,16 @@ func startDemoWith(t *testing.T, opt web.Options) (*site, demo) {
 func facilitatorOnDemo(t *testing.T) (*site, demo, *person) {
 	t.Helper()
 	s, d := startDemo(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
+	return s, d, signedInFacilitator(t, s)
+}
+
+// signedInFacilitator starts a headless browser and signs the facilitator
+// in to s, in a browser context of their own.
+func signedInFacilitator(t *testing.T, s *site) *person {
+	t.Helper()
+	fac := startBrowser(t).person("facilitator")
 	signIn(t, s, fac)
-	return s, d, fac
+	return fac
 }
 
 // startSite opens a new database in a temp dir, issues the facilitator
@@ -490,6 +496,14 @@ func clip(s string, n int) string {
 		return s
 	}
 	return s[:n] + "…"
+}
+
+// liveConnected waits until the page's live stream is open (live.js
+// sets data-live="connected" on <html> when it opens); what names the
+// stream in a failure.
+func (p *person) liveConnected(what string) {
+	p.t.Helper()
+	p.waitFor(what, `document.documentElement.getAttribute("data-live") === "connected"`)
 }
 
 // waitFor waits until the script expression is truthy in the page.

@@ -28,9 +28,7 @@ func TestLargePanelPages(t *testing.T) {
 	ws, q := largePanel(t, s, n)
 	axe := axeSource(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	base := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
 	qp := base + "/q/" + strconv.FormatInt(q.ID, 10)
 	for _, pg := range []struct{ name, url string }{
@@ -143,9 +141,7 @@ func largePanelWith(t *testing.T, s *site, n int, set func(*workshop.Question)) 
 func TestLargePanelCellsKeepDatesAndValuesWhole(t *testing.T) {
 	s := startSite(t)
 	ws, q := largePanel(t, s, 24)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	qp := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10)
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 900, w < 600)

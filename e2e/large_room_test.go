@@ -32,9 +32,7 @@ func TestLargePanelRoomInBrowser(t *testing.T) {
 		t.Fatal(err)
 	}
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
 	type shown struct {
 		Lines  []float64 `json:"lines"`  // the screen x of each shown truth line

@@ -31,9 +31,7 @@ import (
 func TestLivePageCatchesAChangeBeforeItsStreamOpened(t *testing.T) {
 	site, d := startDemo(t)
 	q1 := strconv.FormatInt(d.qs[0].ID, 10)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	fac.viewport(1366, 768, false)
 
 	// The projector's only tab: its stream is the browser's first.
@@ -45,7 +43,7 @@ func TestLivePageCatchesAChangeBeforeItsStreamOpened(t *testing.T) {
 	}
 
 	// A second tab joins the stream the projector's tab holds.
-	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the room's stream")
 	overview := fac.tab("overview")
 	overview.viewport(1366, 900, false)
 	overview.openHoldingLiveScript(d.url+"/", func() {
@@ -174,7 +172,7 @@ func TestLivePageFollowsAfterARefusedForm(t *testing.T) {
 	if u := fac.url(); !strings.HasSuffix(u, "/weights") {
 		t.Fatalf("the refused form's page stands at %s", u)
 	}
-	fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the live stream to connect")
 	priyaSaves(t, site, d, "0.02", "0.05", "0.12")
 	listed := `Array.from(document.querySelectorAll("#reasons li")).some(li => li.innerText.includes("Line audits (invented)."))`
 	if err := fac.poll(liveWithin, listed); err != nil {
@@ -214,7 +212,7 @@ func TestLivePageResumesAfterSigningInAgain(t *testing.T) {
 		fac.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room")
 		panel.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10))
 		for _, p := range []*person{fac, panel} {
-			p.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+			p.liveConnected("the stream")
 		}
 		fac.postFromPage("/signout", "")
 		// The next change ends the stream of a session that has ended;
@@ -303,7 +301,7 @@ func TestOverviewRosterFollowsALiveSave(t *testing.T) {
 	site, d, fac := facilitatorOnDemo(t)
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/")
-	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the overview's stream")
 	count := `(() => { const row = Array.from(document.querySelectorAll("table.table-roster tbody tr")).find(r => r.innerText.startsWith("Priya Raman")); return row ? row.querySelector('td[data-label="Answers"]').innerText : "<no row>"; })()`
 	if got := eval[string](fac, "Priya's count before", count); got != "3 of 6 have a current answer" {
 		t.Fatalf("Priya's roster line reads %q before her save", got)
@@ -356,7 +354,7 @@ func roomWithFetchesCaught(t *testing.T) (*site, demo, *person, <-chan fetch.Req
 	fac.viewport(1366, 768, false)
 	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
 	fac.open(room)
-	fac.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the room's stream")
 
 	paused := make(chan fetch.RequestID, 8)
 	ctx, cancel := context.WithCancel(fac.ctx)

@@ -28,7 +28,7 @@ func TestRefusedFormHeldFetchesNothingOnBlur(t *testing.T) {
 		t.Fatalf("withholding without a reason: %d, want 422", st)
 	}
 	fac.waitFor("the refusal in the reasons", `!!document.querySelector("#reasons-live .form-error")`)
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	priyaSaves(t, site, d, "0.02", "0.06", "0.12")
 	if err := fac.poll(liveWithin+3*time.Second, `document.documentElement.hasAttribute("data-live-updated")`); err != nil {
 		t.Fatalf("the panel did not fetch itself after Priya's save: %v", err)
@@ -49,7 +49,7 @@ func TestRefusedFormHeldFetchesNothingOnBlur(t *testing.T) {
 	// A part held by the focus in it is brought up to date as the focus
 	// leaves it.
 	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	fac.do("focus a withhold box", chromedp.Focus(chromedp.CSS(`#reasons-live form input[name=withhold_reason]`)))
 	priyaSavesWith(t, site, d, d.qs[0], "Audits held by the focus (invented).", "0.02", "0.06", "0.13")
 	if err := fac.poll(liveWithin+3*time.Second, `document.documentElement.hasAttribute("data-live-updated")`); err != nil {

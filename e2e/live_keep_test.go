@@ -26,10 +26,10 @@ func TestLiveRefreshKeepsWhatTheFacilitatorIsDoing(t *testing.T) {
 	panelURL := g.wsURL() + "/q/" + strconv.FormatInt(g.qs[0].ID, 10)
 	fac.viewport(1366, 768, false)
 	fac.open(panelURL)
-	fac.waitFor("the panel's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the panel's live stream")
 	overview.viewport(390, 844, true)
 	overview.open(g.wsURL())
-	overview.waitFor("the overview's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	overview.liveConnected("the overview's live stream")
 
 	// The panel: a withhold reason typed, then Tab to its button.
 	const why = "Names a colleague (invented)."

@@ -49,9 +49,7 @@ func TestLiveRoomInOneBrowserUnderLoad(t *testing.T) {
 		names = append(names, e.Name)
 	}
 
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	qPath := "/w/" + strconv.FormatInt(d.w.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10)
 	pages := []string{"/w/" + strconv.FormatInt(d.w.ID, 10) + "/", qPath, qPath + "/room"}
 	tabs := []*person{fac, fac.tab("facilitator's panel"), fac.tab("projector's room view")}
@@ -59,7 +57,7 @@ func TestLiveRoomInOneBrowserUnderLoad(t *testing.T) {
 		if st := tab.open(site.URL + pages[i]); st != http.StatusOK {
 			t.Fatalf("%s: status %d", pages[i], st)
 		}
-		tab.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		tab.liveConnected("the live stream to connect")
 		eval[bool](tab, "room for the fetches' timings", `performance.setResourceTimingBufferSize(2000), true`)
 	}
 	// fetches are a tab's fetches of its own page (live.js fetches

@@ -57,7 +57,7 @@ func TestLivePageSaysWhenItsStreamFallsSilent(t *testing.T) {
 			}))
 		}
 		fac.open(c.page)
-		fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+		fac.liveConnected("the stream")
 		// A beat or two heard: the page knows how often they come.
 		if err := fac.poll(10*time.Second, `!document.getElementById("live-stopped")`); err != nil {
 			t.Fatal(err)
@@ -234,7 +234,7 @@ func TestLivePageNoticesASleepByTheWallClock(t *testing.T) {
 		return err
 	}))
 	fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	eval[bool](fac, "note the stream's states", `(() => {
 		window.__states = [];
 		window.__notices = [];

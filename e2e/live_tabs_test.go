@@ -18,9 +18,7 @@ const liveTabs = 8
 func TestManyLiveTabsInOneBrowser(t *testing.T) {
 	site, d := startDemo(t)
 	qs, wsURL := d.qs, d.url+"/"
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	pages := []string{wsURL, wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10), wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10) + "/room"}
 	var tabs []*person
 	for i := 0; i < liveTabs; i++ {
@@ -31,7 +29,7 @@ func TestManyLiveTabsInOneBrowser(t *testing.T) {
 		if st := tab.open(pages[i%len(pages)]); st != http.StatusOK { // a tab that never loads fails the step's timeout
 			t.Fatalf("tab %d: status %d", i+1, st)
 		}
-		tab.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		tab.liveConnected("the live stream to connect")
 		tabs = append(tabs, tab)
 	}
 	before := make([]string, len(tabs))

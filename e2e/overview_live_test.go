@@ -23,7 +23,7 @@ func TestOverviewRoundsAndAccessFollowALiveChange(t *testing.T) {
 	shots := newScreenshots(t)
 	fac.viewport(1366, 900, false)
 	fac.open(d.url + "/")
-	fac.waitFor("the overview's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the overview's stream")
 	other := fac.tab("another tab")
 	other.open(d.url + "/")
 
@@ -65,7 +65,7 @@ func TestOverviewRoundsAndAccessFollowALiveChange(t *testing.T) {
 	if st := fac.load("open round 2 without a reason", chromedp.Click(chromedp.CSS(`#rounds form button[type=submit]`))); st != http.StatusUnprocessableEntity {
 		t.Fatalf("round 2 without a reason: %d, want 422", st)
 	}
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	// The page puts the focus on the refused field; the facilitator
 	// clicks elsewhere to read the message (a focused field alone would
 	// hold the card).

@@ -24,7 +24,7 @@ func TestPanelKeepsItsPlaceOnALiveChange(t *testing.T) {
 	}{{1366, 768, false}, {phoneWidth, phoneHeight, true}} {
 		fac.viewport(size.w, size.h, size.mobile)
 		fac.open(d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10))
-		fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+		fac.liveConnected("the stream")
 		// The window's top 40 px into the history, under its heading, or
 		// as far down as the page goes (at 1366×768 the history's heading
 		// stands 35 px under the window's top).

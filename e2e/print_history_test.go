@@ -53,9 +53,7 @@ func TestReportHistoryPrintsReasonsAcrossThePage(t *testing.T) {
 		rv.Kept = &f
 		must(s.DB.SaveRevision(ctx, &rv))
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	fac.open(s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/report")
 	dir := t.TempDir()
 	for _, pp := range papers {

@@ -46,9 +46,7 @@ func TestReportPrints(t *testing.T) {
 	}
 	site, d := startDemo(t)
 	qs, wsURL := d.qs, d.url
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	fac.open(wsURL + "/")
 
 	// Close round 1, then agree each target question's prior from the

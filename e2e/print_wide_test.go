@@ -28,9 +28,7 @@ func TestReportPrintsEveryRerunOfAWideWorkshop(t *testing.T) {
 	}
 	s := startSite(t)
 	ws := wideCalibratedWorkshop(t, s, 4, 3, 12)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	// The report prints the reruns where something rests on them: with
 	// the performance weights in force.
 	fac.open(s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/")

@@ -56,9 +56,7 @@ func TestReportWarningsReadOnEveryScreen(t *testing.T) {
 	}
 	wsURL := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
 	section := "#report-q" + strconv.FormatInt(q.ID, 10)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	shots := newScreenshots(t)
 	for _, width := range []int64{390, 1366} {
 		fac.viewport(width, 900, width == 390)

@@ -113,7 +113,7 @@ func TestPriorDisplayKeepsItsPicture(t *testing.T) {
 	// and its marks.
 	fac.viewport(1366, 768, false)
 	fac.open(qp + "/room?show=prior")
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	signOutElsewhere(site, fac)
 	priyaSaves(t, site, d, "0.02", "0.08", "0.25")
 	fac.waitFor("the stream refused", `!!document.getElementById("live-stopped")`)

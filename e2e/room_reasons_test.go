@@ -94,9 +94,7 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 	s := startSite(t)
 	room, reasons := roomReasonsPanel(t, s)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	for _, sz := range [][2]int64{{1024, 768}, {1280, 800}, {1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {
 		w, h := sz[0], sz[1]
 		phone := w < 600
@@ -238,7 +236,7 @@ func TestReasonsDisplayFitsTheScreen(t *testing.T) {
 	// tab leaves it, and the count, within the live pages' bound.
 	fac.viewport(1920, 1080, false)
 	fac.open(room + "?show=reasons")
-	fac.waitFor("the display's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the display's live stream")
 	list := fac.tab("the reasons to withhold")
 	list.viewport(1366, 900, false)
 	list.open(strings.TrimSuffix(room, "/room") + "/reasons")
@@ -363,9 +361,7 @@ func TestFewReasonsStayBesideThePicture(t *testing.T) {
 	}
 	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}} {
 		w, h := sz[0], sz[1]
 		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)
@@ -395,9 +391,7 @@ func TestFewReasonsStayBesideThePicture(t *testing.T) {
 // the side table's.
 func TestLongWordingKeepsTheSideOnScreen(t *testing.T) {
 	s := startSite(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	shots := newScreenshots(t)
 	const sentence = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year? "
 	for _, repeat := range []int{1, 2, 3, 5} {
@@ -474,9 +468,7 @@ func TestReasonsDisplayFitsTheOlderProjector(t *testing.T) {
 	}
 	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room?show=reasons"
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	for _, sz := range [][2]int64{{1024, 768}, {1366, 768}} {
 		w, h := sz[0], sz[1]
 		screen := strconv.FormatInt(w, 10) + "×" + strconv.FormatInt(h, 10)
@@ -581,9 +573,7 @@ const readSideReasons = `(() => {
 // brings the side anew from the server, which chose the link.
 func TestReasonsBesideFollowTheScreen(t *testing.T) {
 	s := startSite(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	shots := newScreenshots(t)
 	const brief = "Invented: site %d's returns."
 	const short = "Invented: site %d's returns ran high in the hot months."

@@ -27,9 +27,7 @@ func TestRoomFollowsItsRulesLive(t *testing.T) {
 	if err != nil || len(revs) != 3 {
 		t.Fatalf("the demo's answers to question 1: %d, %v", len(revs), err)
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	room := fac.tab("projector")
 	room.viewport(1366, 768, false)
 	roomURL := d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"

@@ -57,9 +57,7 @@ type sideShown struct {
 func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
 	s := startSite(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	for _, n := range []int{4, 12, 30} {
 		room := convergedPanel(t, s, n)
 		for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}, {390, 844}} {

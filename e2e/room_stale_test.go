@@ -80,7 +80,7 @@ func TestRoomSaysWhenItStopsFollowing(t *testing.T) {
 	fac.postFromPage(d.url+"/round", "action=open&reason=Second+round+%28invented%29.")
 	q := d.qs[0]
 	fac.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room")
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 	if s := eval[roomStale](fac, "the notice while live", readRoomStale); s.Shown || s.Text != "" {
 		t.Errorf("while the room follows the workshop it shows %q (drawn: %v); want nothing", s.Text, s.Shown)
 	}
@@ -145,7 +145,7 @@ func TestRoomSaysWhenItCannotReachTheServer(t *testing.T) {
 	}))
 	q := d.qs[0]
 	fac.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room")
-	fac.waitFor("the stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the stream")
 
 	// Every new request for the stream fails as if no server listened.
 	ctx, cancel := context.WithCancel(fac.ctx)

@@ -43,7 +43,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	// Priya has not answered question 1.
 	fac.viewport(1366, 900, false)
 	fac.open(wsURL)
-	fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+	fac.liveConnected("the live stream to connect")
 	cell := `(() => { const row = Array.from(document.querySelectorAll("#answered tbody tr")).find(r => r.innerText.startsWith("Priya Raman")); return row ? row.cells[1].innerText : "<no row>"; })()`
 	if got := eval[string](fac, "Priya's cell before", cell); got != "no answer yet" {
 		t.Fatalf("Priya's question-1 cell reads %q before her save", got)
@@ -53,7 +53,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	panel := fac.tab("question 1's panel")
 	panel.viewport(1366, 900, false)
 	panel.open(wsURL + "q/" + strconv.FormatInt(qs[0].ID, 10))
-	panel.waitFor("the panel's live stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	panel.liveConnected("the panel's live stream")
 	const priyasReason = "Supplier audits found two line faults (invented)."
 	withholdable := `Array.from(document.querySelectorAll("#reasons li")).some(li => li.innerText.includes(` + strconv.Quote(priyasReason) + `) && li.querySelector("form button"))`
 	if eval[bool](panel, "Priya's reason before her save", withholdable) {
@@ -214,7 +214,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 
 	// The room follows round-2 saves live.
 	room.open(roomURL(q1))
-	room.waitFor("the room's stream", `document.documentElement.getAttribute("data-live") === "connected"`)
+	room.liveConnected("the room's stream")
 	room.sees("round 2 room", "No expert has revised this question in round 2 yet.")
 	ines := br.person("Ines Varga again")
 	openQuestion(t, ines, site.URL+linkOf(t, links, "Ines Varga"), 1)

@@ -31,10 +31,8 @@ func TestSheetImportInTheLogInBrowser(t *testing.T) {
 	if err := web.SaveSheet(ctx, site.DB, w, rows, workshop.ChannelPhone, file); err != nil {
 		t.Fatal(err)
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
 	shots := newScreenshots(t)
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	base := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)
 	for _, width := range []int64{1366, 390} {
 		fac.viewport(width, 900, width < 1000)

@@ -44,10 +44,8 @@ func TestSheetUnchangedRowsInBrowser(t *testing.T) {
 	if err := site.DB.SaveRevision(ctx, &own); err != nil {
 		t.Fatal(err)
 	}
-	br := startBrowser(t)
-	fac := br.person("facilitator")
 	shots := newScreenshots(t)
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	again := text + "Ines Varga,Q1,0.01,0.045,0.1,\n"
 	check := func(width int64) {
 		fac.open(d.url + "/answers/import")

@@ -209,9 +209,7 @@ func TestQuickPriorsInBrowser(t *testing.T) {
 	ctx := context.Background()
 	ws := d.w
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	fac.open(site.URL + "/w/" + strconv.FormatInt(ws.ID, 10))
 	if st := fac.load("open quick priors", chromedp.Click(chromedp.CSS(`nav a[href$="/quick-priors"]`))); st != http.StatusOK {
 		t.Fatalf("quick priors: %d", st)
@@ -365,9 +363,7 @@ func TestRareEventSpreadsOnAPhone(t *testing.T) {
 	post := elicit.Beta{Alpha: 3, Beta: 21000}
 	postSD := chart.FormatSpread(post.SD())
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
+	fac := signedInFacilitator(t, site)
 	wsURL := site.URL + "/w/" + strconv.FormatInt(ws.ID, 10)
 	qURL := wsURL + "/q/" + strconv.FormatInt(q.ID, 10)
 	report := "#report-q" + strconv.FormatInt(q.ID, 10)

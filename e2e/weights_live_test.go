@@ -23,7 +23,7 @@ func TestPanelWeightsFollowALiveChange(t *testing.T) {
 	for _, w := range []int64{1366, 390} {
 		fac.viewport(w, 768, w < 600)
 		fac.open(panel)
-		fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		fac.liveConnected("the live stream to connect")
 		scheme := "performance"
 		if w == 390 {
 			scheme = "equal" // and back
@@ -60,7 +60,7 @@ func TestPanelAgreedPriorFollowsALiveChange(t *testing.T) {
 	for i, w := range []int64{1366, 390} {
 		fac.viewport(w, 768, w < 600)
 		fac.open(panel)
-		fac.waitFor("the live stream to connect", `document.documentElement.getAttribute("data-live") === "connected"`)
+		fac.liveConnected("the live stream to connect")
 		rationale := fmt.Sprintf("Recorded from another tab, take %d (invented).", i+1)
 		fac.postFromPage(panel+"/agree", "source=pool&confirm_open=on&rationale="+url.QueryEscape(rationale))
 		// The pool's single Beta, as the live part shows it.
