@@ -77,6 +77,15 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	draft["reason"] = "A draft, typed and not saved (invented)."
 	ex.fill("form.answer-form", "reason", draft["reason"])
 	const typed = `(() => { const m = {}; document.querySelectorAll("form.answer-form input[type=text], form.answer-form textarea").forEach(f => { m[f.name] = f.value; }); return m; })()`
+	// noticeShots keeps the page at 1366 px and on a phone, with the live
+	// notice scrolled into view and kept on its own.
+	noticeShots := func(page, notice string) {
+		shots.take(ex, "expert-live-"+page+"-1366")
+		ex.viewport(phoneWidth, phoneHeight, true)
+		ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
+		shots.take(ex, "expert-live-"+page+"-390")
+		shots.part(ex, "#live-notice", "expert-live-"+notice+"-390")
+	}
 	draftKept := func(when string) {
 		t.Helper()
 		got := eval[map[string]string](ex, "the draft", typed)
@@ -102,11 +111,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 		t.Errorf("the round closed: the save button is %q", got)
 	}
 	draftKept("the round closed")
-	shots.take(ex, "expert-live-closed-1366")
-	ex.viewport(phoneWidth, phoneHeight, true)
-	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
-	shots.take(ex, "expert-live-closed-390")
-	shots.part(ex, "#live-notice", "expert-live-closed-notice-390")
+	noticeShots("closed", "closed-notice")
 	ex.viewport(1366, 900, false)
 
 	fac.postFromPage(d.url+"/round", "action=open&round=2&reason=Round+2+%28invented%29.")
@@ -121,11 +126,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 		t.Errorf("round 2 opened: the save button is %q", got)
 	}
 	draftKept("round 2 opened")
-	shots.take(ex, "expert-live-round2-offer-1366")
-	ex.viewport(phoneWidth, phoneHeight, true)
-	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
-	shots.take(ex, "expert-live-round2-offer-390")
-	shots.part(ex, "#live-notice", "expert-live-round2-notice-390")
+	noticeShots("round2-offer", "round2-notice")
 
 	ex.do("show the feedback", chromedp.Click(chromedp.CSS(`[data-live-show="feedback-live"]`)))
 	ex.waitFor("the feedback shown", `!!document.querySelector("#feedback-live .panel-feedback")`)
@@ -143,11 +144,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	}
 	draftKept("the link ended")
 	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
-	shots.take(ex, "expert-live-gone-1366")
-	ex.viewport(phoneWidth, phoneHeight, true)
-	ex.do("the notice in view", chromedp.ScrollIntoView(chromedp.CSS("#live-notice")))
-	shots.take(ex, "expert-live-gone-390")
-	shots.part(ex, "#live-notice", "expert-live-gone-notice-390")
+	noticeShots("gone", "gone-notice")
 	ex.noScriptErrors("the round followed")
 }
 

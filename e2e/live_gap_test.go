@@ -89,6 +89,36 @@ func priyaSavesWith(t *testing.T, site *site, d demo, q workshop.Question, reaso
 	}
 }
 
+// pausedRequests passes on the ids of the requests the Fetch domain holds
+// in p's tab (enabled by the caller), until ctx ends: up to n wait to be
+// read, any more are dropped.
+func (p *person) pausedRequests(ctx context.Context, n int) <-chan fetch.RequestID {
+	p.t.Helper()
+	paused := make(chan fetch.RequestID, n)
+	if err := chromedp.Listen(ctx, func(ev any) {
+		if e, ok := ev.(*fetch.EventRequestPaused); ok {
+			select {
+			case paused <- e.RequestID:
+			default:
+			}
+		}
+	}); err != nil {
+		p.t.Fatal(err)
+	}
+	return paused
+}
+
+// withoutSharedWorkers takes SharedWorker away from the pages p opens from
+// now on, so each opens its own live stream, whose requests Chromium can
+// hold or fail (a shared worker's are not the page's).
+func (p *person) withoutSharedWorkers() {
+	p.t.Helper()
+	p.do("a browser without shared workers", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
+		_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: "delete window.SharedWorker;"})
+		return err
+	}))
+}
+
 // openHoldingLiveScript opens address with /static/live.js held back
 // until meanwhile has run: the page is read by the server, and its
 // stream opens only after meanwhile.
@@ -102,19 +132,9 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 // page as it stands before its script runs, or without it.
 func (p *person) openHoldingScript(address, script string, meanwhile func(), fail bool) {
 	p.t.Helper()
-	paused := make(chan fetch.RequestID, 1)
 	ctx, cancel := context.WithCancel(p.ctx)
 	defer cancel()
-	if err := chromedp.Listen(ctx, func(ev any) {
-		if e, ok := ev.(*fetch.EventRequestPaused); ok {
-			select {
-			case paused <- e.RequestID:
-			default:
-			}
-		}
-	}); err != nil {
-		p.t.Fatal(err)
-	}
+	paused := p.pausedRequests(ctx, 1)
 	p.do("hold back "+script, chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
 		if _, err := cdp.Call(ctx, t, network.Enable, network.EnableParams{}); err != nil {
 			return err
@@ -202,10 +222,7 @@ func TestLivePageResumesAfterSigningInAgain(t *testing.T) {
 		for _, p := range []*person{fac, panel} {
 			p.viewport(1366, 768, false)
 			if mode == "direct" {
-				p.do("a browser without shared workers", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
-					_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: "delete window.SharedWorker;"})
-					return err
-				}))
+				p.withoutSharedWorkers()
 			}
 		}
 		q := d.qs[0]
@@ -356,19 +373,9 @@ func roomWithFetchesCaught(t *testing.T) (*site, demo, *person, <-chan fetch.Req
 	fac.open(room)
 	fac.liveConnected("the room's stream")
 
-	paused := make(chan fetch.RequestID, 8)
 	ctx, cancel := context.WithCancel(fac.ctx)
 	t.Cleanup(cancel)
-	if err := chromedp.Listen(ctx, func(ev any) {
-		if e, ok := ev.(*fetch.EventRequestPaused); ok {
-			select {
-			case paused <- e.RequestID:
-			default:
-			}
-		}
-	}); err != nil {
-		t.Fatal(err)
-	}
+	paused := fac.pausedRequests(ctx, 8)
 	call := func(what string, f func(ctx context.Context, t *chromedp.Target) error) {
 		fac.do(what, chromedp.Func(f))
 	}

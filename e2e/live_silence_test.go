@@ -51,10 +51,7 @@ func TestLivePageSaysWhenItsStreamFallsSilent(t *testing.T) {
 		signInAnew(t, site, fac) // the session's cookie is the host's, whatever its port
 		fac.viewport(c.width, c.height, false)
 		if c.mode == "direct" {
-			fac.do("a browser without shared workers", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
-				_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: "delete window.SharedWorker;"})
-				return err
-			}))
+			fac.withoutSharedWorkers()
 		}
 		fac.open(c.page)
 		fac.liveConnected("the stream")

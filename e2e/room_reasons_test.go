@@ -59,10 +59,7 @@ func roomReasonsPanel(t *testing.T, s *site) (string, []string) {
 		}
 		reasons = append(reasons, why)
 	}
-	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatalf("close round 1: %v", err)
-	}
-	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room", reasons
+	return roomAfterRoundOne(t, s, ws, q), reasons
 }
 
 // shownReason is a reason (or its part) on the reasons display, as laid
@@ -356,10 +353,7 @@ func TestFewReasonsStayBesideThePicture(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatalf("close round 1: %v", err)
-	}
-	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	room := roomAfterRoundOne(t, s, ws, q)
 	shots := newScreenshots(t)
 	fac := signedInFacilitator(t, s)
 	for _, sz := range [][2]int64{{1280, 720}, {1366, 768}, {1920, 1080}} {
@@ -396,10 +390,7 @@ func TestLongWordingKeepsTheSideOnScreen(t *testing.T) {
 	const sentence = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year? "
 	for _, repeat := range []int{1, 2, 3, 5} {
 		ws, q := largePanelWith(t, s, 20, func(q *workshop.Question) { q.Wording = strings.TrimSpace(strings.Repeat(sentence, repeat)) })
-		if err := s.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-			t.Fatal(err)
-		}
-		room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+		room := roomAfterRoundOne(t, s, ws, q)
 		for _, sz := range [][2]int64{{1280, 720}, {1366, 768}} {
 			screen := fmt.Sprintf("%d×%d, %d characters of wording", sz[0], sz[1], len(q.Wording))
 			fac.viewport(sz[0], sz[1], false)
@@ -463,10 +454,7 @@ func TestReasonsDisplayFitsTheOlderProjector(t *testing.T) {
 		}
 		reasons[why] = true
 	}
-	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatalf("close round 1: %v", err)
-	}
-	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room?show=reasons"
+	room := roomAfterRoundOne(t, s, ws, q) + "?show=reasons"
 	shots := newScreenshots(t)
 	fac := signedInFacilitator(t, s)
 	for _, sz := range [][2]int64{{1024, 768}, {1366, 768}} {
@@ -594,10 +582,7 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 					t.Fatal(err)
 				}
 			}
-			if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-				t.Fatal(err)
-			}
-			room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+			room := roomAfterRoundOne(t, s, ws, q)
 			kind := map[string]string{brief: "brief", short: "short", long: "long"}[why]
 			for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
 				w, h := sz[0], sz[1]

@@ -1,10 +1,8 @@
 package e2e
 
 import (
-	"context"
 	"fmt"
 	"net/http"
-	"strconv"
 	"testing"
 )
 
@@ -24,10 +22,7 @@ func convergedPanel(t *testing.T, s *site, n int) string {
 			return 0.10 + 0.005*float64(i%7)
 		},
 		reason: "Invented: returns of a similar seal, site %d."}.add(t, s, n)
-	if err := s.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatal(err)
-	}
-	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	return roomAfterRoundOne(t, s, ws, q)
 }
 
 // sideShown is what the room's side column shows of what the room must

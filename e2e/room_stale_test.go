@@ -10,7 +10,6 @@ import (
 	"github.com/chromedp/cdproto/cdp"
 	"github.com/chromedp/cdproto/fetch"
 	"github.com/chromedp/cdproto/network"
-	"github.com/chromedp/cdproto/page"
 	"github.com/chromedp/chromedp"
 )
 
@@ -139,10 +138,7 @@ func TestRoomSaysWhenItCannotReachTheServer(t *testing.T) {
 	fac := br.person("facilitator")
 	signInAnew(t, site, fac)
 	fac.viewport(1366, 768, false)
-	fac.do("a browser without shared workers", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
-		_, err := cdp.Call(ctx, t, page.AddScriptToEvaluateOnNewDocument, page.AddScriptToEvaluateOnNewDocumentParams{Source: "delete window.SharedWorker;"})
-		return err
-	}))
+	fac.withoutSharedWorkers()
 	q := d.qs[0]
 	fac.open(d.url + "/q/" + strconv.FormatInt(q.ID, 10) + "/room")
 	fac.liveConnected("the stream")

@@ -1,7 +1,6 @@
 package e2e
 
 import (
-	"context"
 	"fmt"
 	"net/http"
 	"regexp"
@@ -131,22 +130,27 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	})()`); !strings.HasPrefix(halo, "stroke") || !strings.Contains(halo, "rgb(255, 255, 255)") {
 		t.Errorf("the medians strip's letters have no halo: %q", halo)
 	}
-	fitsScreen(t, room, 1920, 1080)
-	notesReadable(t, room, "1920×1080", 17)
-	pictureFills(t, room, "1920×1080", 14, 17)
-	reasonsBeside(t, room, "1920×1080", priyasReason)
-	shots.take(room, "room-02-question-1-1920x1080")
+	// projector checks the room view as it stands at w×h: it fits the
+	// screen, its notes are set in at least notes px, its picture's tick
+	// labels in tick px and the medians' strip in strip px, Priya's reason
+	// stands beside it; shot names the screenshot.
+	projector := func(w, h int, notes, tick, strip float64, shot string) {
+		t.Helper()
+		screen := fmt.Sprintf("%d×%d", w, h)
+		fitsScreen(t, room, w, h)
+		notesReadable(t, room, screen, notes)
+		pictureFills(t, room, screen, tick, strip)
+		reasonsBeside(t, room, screen, priyasReason)
+		shots.take(room, shot)
+	}
+	projector(1920, 1080, 17, 14, 17, "room-02-question-1-1920x1080")
 	roomLabels := curveMedians(t, room)
 	// An older projector: 1366×768. The picture's notes (the axis zoomed
 	// in, a density cut at the top) were its 12-unit small print, under
 	// 10 px here.
 	room.viewport(1366, 768, false)
 	room.open(roomURL(q1))
-	fitsScreen(t, room, 1366, 768)
-	notesReadable(t, room, "1366×768", 16)
-	pictureFills(t, room, "1366×768", 14, 16)
-	reasonsBeside(t, room, "1366×768", priyasReason)
-	shots.take(room, "room-02b-question-1-1366x768")
+	projector(1366, 768, 16, 14, 16, "room-02b-question-1-1366x768")
 	// A 1280×720 projector, the smallest in common use: the wording takes
 	// three lines and the notes wrap, and the view still fits. The
 	// picture's width sets its size here: with 5/8 of the width its tick
@@ -154,11 +158,7 @@ func TestRoomAndLiveInBrowser(t *testing.T) {
 	// staying at 15.
 	room.viewport(1280, 720, false)
 	room.open(roomURL(q1))
-	fitsScreen(t, room, 1280, 720)
-	notesReadable(t, room, "1280×720", 16)
-	pictureFills(t, room, "1280×720", 14, 15)
-	reasonsBeside(t, room, "1280×720", priyasReason)
-	shots.take(room, "room-02c-question-1-1280x720")
+	projector(1280, 720, 16, 14, 15, "room-02c-question-1-1280x720")
 	// The facilitator looking at the room view on a phone: the page flows
 	// in one column and scrolls, and no part is drawn over another (held
 	// to the screen's height, the picture, the notes and the medians'
@@ -510,9 +510,7 @@ func TestRoomPictureStandsUnderItsHeader(t *testing.T) {
 	fac.open(d.url + "/")
 	fac.postFromPage(d.url+"/round", "action=close")
 	ws, q := largePanelWith(t, site, 20, nil)
-	if err := site.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatal(err)
-	}
+	largeRoom := roomAfterRoundOne(t, site, ws, q)
 	const band = `(() => {
 		const head = document.querySelector(".room-head").getBoundingClientRect();
 		const svg = Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).find(e => e.getClientRects().length > 0);
@@ -526,7 +524,7 @@ func TestRoomPictureStandsUnderItsHeader(t *testing.T) {
 	})()`
 	for _, room := range []struct{ name, shot, url string }{
 		{"the demo's room", "demo", d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"},
-		{"a large panel's room", "large", site.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"},
+		{"a large panel's room", "large", largeRoom},
 	} {
 		fac.open(room.url)
 		for _, w := range []int64{360, phoneWidth} {

@@ -3,6 +3,7 @@ package e2e
 import (
 	"context"
 	"fmt"
+	"strconv"
 	"testing"
 
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -60,4 +61,15 @@ func (p sealPanel) add(t *testing.T, s *site, n int) (workshop.Workshop, worksho
 		}
 	}
 	return ws, q
+}
+
+// roomAfterRoundOne closes round 1 of ws, with an invented reason, as a
+// panel stands when the room discusses it, and returns the address of q's
+// room view.
+func roomAfterRoundOne(t *testing.T, s *site, ws workshop.Workshop, q workshop.Question) string {
+	t.Helper()
+	if err := s.DB.SetRound(context.Background(), ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
+		t.Fatalf("close round 1: %v", err)
+	}
+	return s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
 }
