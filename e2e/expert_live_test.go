@@ -36,6 +36,21 @@ func followingExpert(t *testing.T, i int, onQuestion bool) (demo, *person, *pers
 // words.
 const saveButton = `(() => { const b = document.querySelector("#save-live button"); return b ? (b.disabled ? "disabled: " : "enabled: ") + b.innerText.trim() : "none"; })()`
 
+// typeDraft types a draft on ex's answer form, saving nothing: the value
+// box named names[i] gets 0.(i+1)17 and the reasoning a line. It returns
+// what it typed, by field name.
+func typeDraft(ex *person, names []string) map[string]string {
+	ex.t.Helper()
+	draft := map[string]string{}
+	for i, n := range names {
+		draft[n] = fmt.Sprintf("0.%d17", i+1)
+		ex.fill("form.answer-form", n, draft[n])
+	}
+	draft["reason"] = "A draft, typed and not saved (invented)."
+	ex.fill("form.answer-form", "reason", draft["reason"])
+	return draft
+}
+
 // An expert typing a draft learned that the facilitator had closed their
 // round only when Save was refused, and saw round 2's feedback only after
 // a reload. The question's page follows its round now, without touching
@@ -69,13 +84,7 @@ func TestExpertPageFollowsItsRound(t *testing.T) {
 	if len(names) == 0 {
 		t.Fatal("the question's page has no value boxes")
 	}
-	draft := map[string]string{}
-	for i, n := range names {
-		draft[n] = fmt.Sprintf("0.%d17", i+1)
-		ex.fill("form.answer-form", n, draft[n])
-	}
-	draft["reason"] = "A draft, typed and not saved (invented)."
-	ex.fill("form.answer-form", "reason", draft["reason"])
+	draft := typeDraft(ex, names)
 	const typed = `(() => { const m = {}; document.querySelectorAll("form.answer-form input[type=text], form.answer-form textarea").forEach(f => { m[f.name] = f.value; }); return m; })()`
 	// noticeShots keeps the page at 1366 px and on a phone, with the live
 	// notice scrolled into view and kept on its own.
@@ -256,13 +265,7 @@ func TestExpertPageForgetsTheExpertOnceItsLinkEnds(t *testing.T) {
 	ex.liveConnected("the stream")
 
 	// A draft typed over it, not saved.
-	draft := map[string]string{}
-	for i, n := range names {
-		draft[n] = fmt.Sprintf("0.%d17", i+1)
-		ex.fill("form.answer-form", n, draft[n])
-	}
-	draft["reason"] = "A draft, typed and not saved (invented)."
-	ex.fill("form.answer-form", "reason", draft["reason"])
+	draft := typeDraft(ex, names)
 	// The fit shown is the draft's, as the expert typed it.
 	ex.waitFor("the draft's fit", `document.querySelector("#preview").innerText.includes("Read as 0.117")`)
 

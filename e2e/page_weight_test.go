@@ -16,12 +16,7 @@ import (
 func TestExpertPagesAreLightOnASlowLink(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
-	link := ""
-	for _, l := range d.links {
-		if l.Name == "Priya Raman" {
-			link = site.URL + l.Path
-		}
-	}
+	link := site.URL + linkOf(t, d.links, "Priya Raman")
 	priya := br.person("Priya (on a phone)")
 	priya.viewport(390, 844, true)
 	// bytes is what the page cost over the network: the page itself and

@@ -23,12 +23,7 @@ import (
 func TestSaveStaysPutWhileThePreviewRedraws(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
-	link := ""
-	for _, l := range d.links {
-		if l.Name == "Priya Raman" {
-			link = site.URL + l.Path
-		}
-	}
+	link := site.URL + linkOf(t, d.links, "Priya Raman")
 	priya := br.person("Priya (on a phone)")
 	const save = `form.answer-form button[formaction$="/save"]`
 	saveTop := func() float64 {

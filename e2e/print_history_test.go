@@ -22,9 +22,7 @@ import (
 // questions and 1,290 saves printed its history on 630 pages. On A4 and
 // Letter a reason of about 300 characters must take at most 5 lines.
 func TestReportHistoryPrintsReasonsAcrossThePage(t *testing.T) {
-	if _, err := exec.LookPath("pdftotext"); err != nil {
-		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
-	}
+	poppler(t, "pdftotext")
 	const reason = "Kestrel: the invented inspection logs show blockages clustered at the older stone culverts. " +
 		"I weighed the storm records more heavily than the maintenance schedule, which slipped twice last year. " +
 		"After the discussion I moved my median towards the panel's, but kept my upper value: Osprey."

@@ -32,6 +32,17 @@ var papers = []paper{{"A4", 8.27, 11.69}, {"Letter", 8.5, 11}}
 // full, except the last.
 const minFill = 0.2
 
+// poppler returns the path of tool, one of poppler-utils' programs that
+// read the printed PDF, and skips the test, loudly, when it is missing.
+func poppler(t *testing.T, tool string) string {
+	t.Helper()
+	path, err := exec.LookPath(tool)
+	if err != nil {
+		t.Skipf("SKIPPING THE PRINT TEST: %s not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", tool, err)
+	}
+	return path
+}
+
 // TestReportPrints prints the invented demo's record, with an agreed prior
 // for every target question, through Chromium's own print to PDF on A4
 // and on Letter, as a facilitator's Print command would, and measures each
@@ -40,10 +51,7 @@ const minFill = 0.2
 // the caution once, and no page but the last may be less than a fifth
 // full. The page counts are written to the log (and DEVELOPERS.md).
 func TestReportPrints(t *testing.T) {
-	raster, err := exec.LookPath("pdftoppm")
-	if err != nil {
-		t.Skipf("SKIPPING THE PRINT TEST: pdftoppm not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
-	}
+	raster := poppler(t, "pdftoppm")
 	site, d := startDemo(t)
 	qs, wsURL := d.qs, d.url
 	fac := signedInFacilitator(t, site)
@@ -231,9 +239,7 @@ func pdfText(t *testing.T, pdf string) string {
 // near-certainty warning, its text on page 12. No page may end with a
 // table's heads or a heading.
 func TestReportKeepsEachTableHeadWithItsRows(t *testing.T) {
-	if _, err := exec.LookPath("pdftotext"); err != nil {
-		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
-	}
+	poppler(t, "pdftotext")
 	_, d, fac := facilitatorOnDemo(t)
 	fac.open(d.url + "/")
 	// The walk of a whole workshop: round 1 closed, round 2 opened, the

@@ -23,9 +23,7 @@ import (
 // of the report to fit as much of it as it could). Printed on A4 and
 // Letter, every number of the table must be on paper.
 func TestReportPrintsEveryRerunOfAWideWorkshop(t *testing.T) {
-	if _, err := exec.LookPath("pdftotext"); err != nil {
-		t.Skipf("SKIPPING THE PRINT TEST: pdftotext not found (%v). Install it with `apt-get install -y poppler-utils`; .ci/run does.", err)
-	}
+	poppler(t, "pdftotext")
 	s := startSite(t)
 	ws := wideCalibratedWorkshop(t, s, 4, 3, 12)
 	fac := signedInFacilitator(t, s)

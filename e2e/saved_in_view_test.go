@@ -14,12 +14,7 @@ import (
 func TestSavedIsInViewAfterTheSave(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
-	link := ""
-	for _, l := range d.links {
-		if l.Name == "Priya Raman" {
-			link = site.URL + l.Path
-		}
-	}
+	link := site.URL + linkOf(t, d.links, "Priya Raman")
 	priya := br.person("Priya (on a phone)")
 	for i, size := range [][2]int64{{390, 844}, {360, 640}, {844, 390}} {
 		priya.viewport(size[0], size[1], true)

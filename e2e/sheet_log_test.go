@@ -14,23 +14,33 @@ import (
 	"github.com/parley-elicit/parley/web"
 )
 
+// priyaByPhone is an answer sheet of one row: Priya's answer to the
+// demo's Q1, read out by phone (invented).
+const priyaByPhone = "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
+
+// savePhoneSheet reads text as an answer sheet for the demo d and saves
+// its rows as taken by phone, from the file named name, which it returns.
+func savePhoneSheet(t *testing.T, s *site, d demo, name, text string) answersheet.File {
+	t.Helper()
+	file := answersheet.File{Name: name, Text: text}
+	rows, err := answersheet.Read(strings.NewReader(text), d.qs, d.experts)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if err := web.SaveSheet(context.Background(), s.DB, d.w, rows, workshop.ChannelPhone, file); err != nil {
+		t.Fatal(err)
+	}
+	return file
+}
+
 // TestSheetImportInTheLogInBrowser: an imported answer sheet's line in
 // the decision log and the report, with its file's 64-figure SHA-256,
 // fits a phone's screen and a laptop's without scrolling sideways; so
 // does the upload page with the columns of the demo's questions.
 func TestSheetImportInTheLogInBrowser(t *testing.T) {
 	site, d := startDemo(t)
-	ctx := context.Background()
-	w, qs, es := d.w, d.qs, d.experts
-	text := "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
-	rows, err := answersheet.Read(strings.NewReader(text), qs, es)
-	if err != nil {
-		t.Fatal(err)
-	}
-	file := answersheet.File{Name: "hx40-phone-answers-round1-final-version-2.csv", Text: text}
-	if err := web.SaveSheet(ctx, site.DB, w, rows, workshop.ChannelPhone, file); err != nil {
-		t.Fatal(err)
-	}
+	w, qs := d.w, d.qs
+	file := savePhoneSheet(t, site, d, "hx40-phone-answers-round1-final-version-2.csv", priyaByPhone)
 	shots := newScreenshots(t)
 	fac := signedInFacilitator(t, site)
 	base := site.URL + "/w/" + strconv.FormatInt(w.ID, 10)

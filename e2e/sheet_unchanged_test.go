@@ -4,13 +4,10 @@ import (
 	"context"
 	"net/http"
 	"strconv"
-	"strings"
 	"testing"
 
 	"github.com/chromedp/chromedp"
-	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/web"
 )
 
 // TestSheetUnchangedRowsInBrowser: a sheet imported again with one row
@@ -25,14 +22,8 @@ func TestSheetUnchangedRowsInBrowser(t *testing.T) {
 	site, d := startDemo(t)
 	ctx := context.Background()
 	axe := axeSource(t)
-	text := "expert,question,q05,q50,q95,reason\nPriya Raman,Q1,0.02,0.05,0.12,Read out by phone from her notes (invented).\n"
-	rows, err := answersheet.Read(strings.NewReader(text), d.qs, d.experts)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if err := web.SaveSheet(ctx, site.DB, d.w, rows, workshop.ChannelPhone, answersheet.File{Name: "monday.csv", Text: text}); err != nil {
-		t.Fatal(err)
-	}
+	text := priyaByPhone
+	savePhoneSheet(t, site, d, "monday.csv", text)
 	var ines workshop.Expert
 	for _, e := range d.experts {
 		if e.Name == "Ines Varga" {

@@ -233,15 +233,17 @@ func TestFirstTimeWalk(t *testing.T) {
 	// Calibration and weights.
 	fac.open(wsURL + "calibration")
 	both(fac, "w14-calibration", false)
-	seed := `form[action$="/calibration/q/3"]`
-	fac.do("reveal", chromedp.Click(chromedp.CSS(seed+` input[name=reveal]`)))
-	fac.fill(seed, "reason", "Shown after round 2 opened, as planned.")
-	fac.load("save true value", chromedp.Click(chromedp.CSS(seed+` button[type=submit]`)))
+	// reveal shows calibration question n's true value to the panel, as
+	// planned, through its form on the calibration page.
+	reveal := func(n int) {
+		seed := fmt.Sprintf(`form[action$="/calibration/q/%d"]`, n)
+		fac.do("reveal", chromedp.Click(chromedp.CSS(seed+` input[name=reveal]`)))
+		fac.fill(seed, "reason", "Shown after round 2 opened, as planned.")
+		fac.load("save true value", chromedp.Click(chromedp.CSS(seed+` button[type=submit]`)))
+	}
+	reveal(3)
 	both(fac, "w15-calibration-revealed", false)
-	seed = `form[action$="/calibration/q/4"]`
-	fac.do("reveal", chromedp.Click(chromedp.CSS(seed+` input[name=reveal]`)))
-	fac.fill(seed, "reason", "Shown after round 2 opened, as planned.")
-	fac.load("save true value", chromedp.Click(chromedp.CSS(seed+` button[type=submit]`)))
+	reveal(4)
 	wf := `form[action$="/calibration/weights"]`
 	fac.do("performance", chromedp.Click(chromedp.CSS(wf+` input[name=scheme][value=performance]`)))
 	if fac.count(wf) == 1 {
