@@ -24,7 +24,7 @@ func TestNoAxeViolationOfAnyImpact(t *testing.T) {
 	fac := br.person("facilitator")
 	signIn(t, g.site, fac)
 	carmen := br.person("Carmen (expert)")
-	link := g.links["Carmen Ruiz (invented)"]
+	link := g.carmensLink()
 	q := func(i int) string { return strconv.FormatInt(g.qs[i].ID, 10) }
 	noViolation := func(p *person, where string) {
 		t.Helper()

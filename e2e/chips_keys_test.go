@@ -18,12 +18,11 @@ import (
 // the column.
 func TestChipsBoardSaysItsKeys(t *testing.T) {
 	g := newDeviceRig(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (keyboard only)")
+	carmen := carmenIn(t, "keyboard only")
 	shots := newScreenshots(t)
 	for _, w := range []int64{390, 1366} {
 		carmen.viewport(w, 844, w < 600)
-		carmen.open(g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[2].ID, 10))
+		carmen.open(g.carmensPage(2))
 		carmen.waitFor("the board", `!document.querySelector(".chips-board").hidden`)
 		if carmen.visible(`.chips-keys`) {
 			t.Errorf("at %d px the board's keys are said before the board has the focus", w)
@@ -34,7 +33,7 @@ func TestChipsBoardSaysItsKeys(t *testing.T) {
 		if carmen.visible(`.chips-keys`) {
 			t.Errorf("at %d px a tap on the board says its keys", w)
 		}
-		carmen.open(g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[2].ID, 10))
+		carmen.open(g.carmensPage(2))
 		carmen.waitFor("the board", `!document.querySelector(".chips-board").hidden`)
 		for k := 0; k < 10 && !eval[bool](carmen, "on the board", `document.activeElement.classList.contains("chips-bin")`); k++ {
 			carmen.do("Tab", chromedp.KeyEvent(kb.Tab))

@@ -92,6 +92,22 @@ func newDeviceRig(t *testing.T) *deviceRig {
 	return g
 }
 
+// carmensLink is the rig's expert Carmen's private link.
+func (g *deviceRig) carmensLink() string { return g.links["Carmen Ruiz (invented)"] }
+
+// carmensPage is the address of Carmen's own page of the rig's question
+// i (from 0).
+func (g *deviceRig) carmensPage(i int) string {
+	return g.carmensLink() + "q/" + strconv.FormatInt(g.qs[i].ID, 10)
+}
+
+// carmenIn starts a browser with Carmen's own context in it, named for
+// how she reaches the pages (on a phone, keyboard only, ...).
+func carmenIn(t *testing.T, how string) *person {
+	t.Helper()
+	return startBrowser(t).person("Carmen (" + how + ")")
+}
+
 // twentieths are the edges of twenty equal bins over [0, 1].
 func twentieths() []float64 {
 	edges := make([]float64, 21)
@@ -303,7 +319,7 @@ func TestEveryPageOnAPhone(t *testing.T) {
 	fac := br.person("facilitator")
 	signIn(t, g.site, fac)
 	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	link := g.carmensLink()
 	qURL := func(i int) string { return link + "q/" + strconv.FormatInt(g.qs[i].ID, 10) }
 
 	expertPages := func(state string) map[string]string {
@@ -483,7 +499,7 @@ func TestKeyboardAndCrowdedChips(t *testing.T) {
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	link := g.carmensLink()
 	qURL := func(i int) string { return link + "q/" + strconv.FormatInt(g.qs[i].ID, 10) }
 	crowded := link + "q/" + strconv.FormatInt(q.ID, 10)
 

@@ -51,7 +51,7 @@ func TestLiveRefreshKeepsWhatTheFacilitatorIsDoing(t *testing.T) {
 	}
 
 	carmen := br.person("Carmen Ruiz")
-	openQuestion(t, carmen, g.links["Carmen Ruiz (invented)"], 1)
+	openQuestion(t, carmen, g.carmensLink(), 1)
 	typeValues(carmen, "0.02", "0.05", "0.12")
 	carmen.fill(`form.answer-form`, "reason", "From the repair crews' notes (invented).")
 	saveAnswer(t, carmen)

@@ -3,7 +3,6 @@ package e2e
 import (
 	"context"
 	"fmt"
-	"strconv"
 	"strings"
 	"testing"
 
@@ -33,7 +32,7 @@ func TestLongReasonInTheFeedbackFitsAPhone(t *testing.T) {
 	carmen := br.person("Carmen (on a phone)")
 	for _, w := range []int64{360, 390, 1366} {
 		carmen.viewport(w, 844, w < 600)
-		carmen.open(g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
+		carmen.open(g.carmensPage(0))
 		carmen.sees("round 2's reasons", address[:40])
 		fits(t, carmen, "round 2 with a long reason", w)
 		shots.take(carmen, fmt.Sprintf("long-reason-round-2-%d", w))

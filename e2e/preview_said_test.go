@@ -1,7 +1,6 @@
 package e2e
 
 import (
-	"strconv"
 	"strings"
 	"testing"
 )
@@ -15,9 +14,8 @@ import (
 // stops the fit.
 func TestLivePreviewIsAnnouncedInBrief(t *testing.T) {
 	g := newDeviceRig(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (with a screen reader)")
-	carmen.open(g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
+	carmen := carmenIn(t, "with a screen reader")
+	carmen.open(g.carmensPage(0))
 	// Everything a screen reader reads out politely when it changes.
 	const spoken = `Array.from(document.querySelectorAll("[aria-live=polite], [aria-live=assertive]")).filter(e => e.closest("form.answer-form") === null).map(e => e.textContent.replace(/\s+/g, " ").trim()).join(" | ")`
 	if n := carmen.count(`#preview[aria-live], #preview [aria-live]`); n != 0 {

@@ -17,9 +17,8 @@ import (
 func TestRefusedAnswerOnAPhone(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "on a phone")
+	link := g.carmensLink()
 	qURL := func(i int) string { return link + "q/" + strconv.FormatInt(g.qs[i].ID, 10) }
 	refuse := func(what string) {
 		t.Helper()

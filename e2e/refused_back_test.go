@@ -21,7 +21,7 @@ func TestRefusedSaveSurvivesReloadAndBack(t *testing.T) {
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	carmen := br.person("Carmen (on a phone)")
-	q4 := g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[3].ID, 10)
+	q4 := g.carmensPage(3)
 	save := `form.answer-form button[formaction$="/save"]`
 	carmen.viewport(390, 844, true)
 	carmen.open(q4)

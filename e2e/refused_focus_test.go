@@ -20,7 +20,7 @@ func TestRefusedAnswerFocusesTheFirstMarkedField(t *testing.T) {
 	shots := newScreenshots(t)
 	br := startBrowser(t)
 	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	link := g.carmensLink()
 	focused := func(p *person, where, want string) {
 		t.Helper()
 		got := eval[[]float64](p, "the focused field", `(() => {
@@ -70,9 +70,8 @@ func TestRefusedAnswerFocusesTheFirstMarkedField(t *testing.T) {
 // message, both in view.
 func TestRefusedChipsFocusTheBoard(t *testing.T) {
 	g := newDeviceRig(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (keyboard only)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "keyboard only")
+	link := g.carmensLink()
 	shots := newScreenshots(t)
 	for _, w := range []int64{390, 1366} {
 		carmen.viewport(w, 844, w < 600)

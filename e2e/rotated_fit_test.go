@@ -2,7 +2,6 @@ package e2e
 
 import (
 	"fmt"
-	"strconv"
 	"testing"
 
 	"github.com/chromedp/chromedp"
@@ -22,9 +21,8 @@ import (
 func TestFitTableFitsAPhoneOnItsSide(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (phone on its side)")
-	q1 := g.links["Carmen Ruiz (invented)"] + "q/" + strconv.FormatInt(g.qs[0].ID, 10)
+	carmen := carmenIn(t, "phone on its side")
+	q1 := g.carmensPage(0)
 	for _, size := range [][2]int64{{844, 390}, {915, 412}, {932, 430}, {1024, 768}, {1040, 800}, {1088, 800}, {1089, 800}, {1120, 800}} {
 		carmen.viewport(size[0], size[1], true)
 		carmen.open(q1)

@@ -14,9 +14,8 @@ import (
 func TestRotatedPhoneKeepsTargetsLarge(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (phone on its side)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "phone on its side")
+	link := g.carmensLink()
 	carmen.viewport(844, 390, true)
 	for i := range 3 {
 		carmen.open(link + "q/" + strconv.FormatInt(g.qs[i].ID, 10))

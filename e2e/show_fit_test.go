@@ -24,9 +24,8 @@ import (
 func TestShowTheFitStaysOnThePage(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "on a phone")
+	link := g.carmensLink()
 	q1 := link + "q/" + strconv.FormatInt(g.qs[0].ID, 10)
 	carmen.viewport(390, 844, true)
 	carmen.open(link)
@@ -111,9 +110,8 @@ func (p *person) back(t *testing.T) {
 // top are both in view now, at 390 and 1366 px.
 func TestShowTheFitKeepsTheFocusInView(t *testing.T) {
 	g := newDeviceRig(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (keyboard only)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "keyboard only")
+	link := g.carmensLink()
 	for _, w := range []int64{390, 1366} {
 		carmen.viewport(w, 844, w < 600)
 		carmen.open(link + "q/" + strconv.FormatInt(g.qs[0].ID, 10))

@@ -16,9 +16,8 @@ import (
 func TestUnitChoiceMovesThePercentSign(t *testing.T) {
 	g := newDeviceRig(t)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	carmen := br.person("Carmen (on a phone)")
-	link := g.links["Carmen Ruiz (invented)"]
+	carmen := carmenIn(t, "on a phone")
+	link := g.carmensLink()
 	carmen.viewport(390, 844, true)
 	carmen.open(link + "q/" + strconv.FormatInt(g.qs[0].ID, 10))
 	signs := func(want string) string {
