@@ -339,20 +339,7 @@ func reasonsBeside(t *testing.T, p *person, screen, want string) {
 // on the screen, at every projector size.
 func TestFewReasonsStayBesideThePicture(t *testing.T) {
 	s := startSite(t)
-	ws, q := largePanelWith(t, s, 4, func(q *workshop.Question) {
-		q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
-	})
-	ctx := context.Background()
-	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
-	if err != nil || len(latest) != 4 {
-		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
-	}
-	for i, rv := range latest {
-		rv.ID, rv.Reason = 0, fmt.Sprintf("Invented: site %d's returns.", i+1)
-		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
+	ws, q := fourSitesWithReasons(t, s, "Invented: site %d's returns.")
 	room := roomAfterRoundOne(t, s, ws, q)
 	shots := newScreenshots(t)
 	fac := signedInFacilitator(t, s)
@@ -666,28 +653,10 @@ func TestReasonsBesideFollowTheScreen(t *testing.T) {
 // load, the link shows once the wait ends (room.css).
 func TestRoomSideWaitsForItsPlace(t *testing.T) {
 	s := startSite(t)
-	ws, q := largePanelWith(t, s, 4, func(q *workshop.Question) {
-		q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
-	})
-	ctx := context.Background()
-	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
-	if err != nil || len(latest) != 4 {
-		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
-	}
-	for i, rv := range latest {
-		rv.ID, rv.Reason = 0, fmt.Sprintf("Invented: site %d's returns ran high in the hot months.", i+1)
-		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
-	if err := s.DB.SetRound(ctx, ws.ID, 1, false, "Discussion of round 1 (invented)."); err != nil {
-		t.Fatal(err)
-	}
-	room := s.URL + "/w/" + strconv.FormatInt(ws.ID, 10) + "/q/" + strconv.FormatInt(q.ID, 10) + "/room"
+	ws, q := fourSitesWithReasons(t, s, "Invented: site %d's returns ran high in the hot months.")
+	room := roomAfterRoundOne(t, s, ws, q)
 	shots := newScreenshots(t)
-	br := startBrowser(t)
-	fac := br.person("facilitator")
-	signIn(t, s, fac)
+	fac := signedInFacilitator(t, s)
 	fac.viewport(1920, 1080, false)
 	// Seen: laid out with a box, and not hidden by visibility.
 	const seen = `(sel => { const e = document.querySelector(sel); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility === "visible"; })`
@@ -734,4 +703,27 @@ func TestRoomSideWaitsForItsPlace(t *testing.T) {
 	}
 	bare.sees("the reasons display", "Invented: site 1's returns ran high in the hot months.")
 	shots.take(bare, "room-side-noscript-reasons-1920")
+}
+
+// fourSitesWithReasons is a panel of four on the invented pump seals of
+// four sites, under a wording of two lines at 1280 px, each expert having
+// saved their answer again with the reason reason (a format taking the
+// site's number, 1 to 4).
+func fourSitesWithReasons(t *testing.T, s *site, reason string) (workshop.Workshop, workshop.Question) {
+	t.Helper()
+	ws, q := largePanelWith(t, s, 4, func(q *workshop.Question) {
+		q.Wording = "Of the new pump seals fitted at the four invented sites next spring, what share will fail within their first year of service?"
+	})
+	ctx := context.Background()
+	latest, err := s.DB.LatestRevisions(ctx, q.ID, 1)
+	if err != nil || len(latest) != 4 {
+		t.Fatalf("the panel's answers: %d, %v", len(latest), err)
+	}
+	for i, rv := range latest {
+		rv.ID, rv.Reason = 0, fmt.Sprintf(reason, i+1)
+		if err := s.DB.SaveRevision(ctx, &rv); err != nil {
+			t.Fatal(err)
+		}
+	}
+	return ws, q
 }
