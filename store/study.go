@@ -24,13 +24,9 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		return err
 	}
 	return db.write(ctx, func(tx *sql.Tx) error {
-		var workshopID int64
-		err := tx.QueryRowContext(ctx, `SELECT workshop_id FROM questions WHERE id = ?`, d.QuestionID).Scan(&workshopID)
-		if errors.Is(err, sql.ErrNoRows) {
-			return notFound("question", d.QuestionID)
-		}
+		workshopID, err := questionWorkshop(ctx, tx, d.QuestionID)
 		if err != nil {
-			return fmt.Errorf("store: record data: %w", err)
+			return err
 		}
 		at, err := stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
 		if err != nil {

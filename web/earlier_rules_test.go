@@ -46,7 +46,7 @@ func TestAnAnswerSavedUnderEarlierRulesIsShownUnfitted(t *testing.T) {
 	if res.StatusCode != http.StatusOK {
 		t.Fatalf("question page: %d", res.StatusCode)
 	}
-	want := "could not be fitted: saved by an earlier version of Parley, whose rules took it; today's rules refuse it: values[0] " +
+	want := "could not be fitted: saved by an earlier version of Parley, whose rules took it; today's rules refuse it: the 5% value " +
 		string(elicit.RuleValueNearBound) + " (5e-324 on (0, 1))"
 	if !strings.Contains(body, html.EscapeString(want)) {
 		t.Errorf("the question page does not say %q", want)

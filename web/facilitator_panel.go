@@ -187,7 +187,7 @@ func (d workshopData) state(q workshop.Question) questionState {
 		row := expertFitRow{Expert: m.Expert, Revision: m.Revision, Saves: m.Saves, Fit: m.Fit,
 			Pooled: m.Pooled, Weight: m.Weight, Share: m.Share}
 		if m.FitErr != nil {
-			row.FitError = fitErrorWords(m.FitErr)
+			row.FitError = fitErrorWords(m.FitErr, q)
 		}
 		st.Rows = append(st.Rows, row)
 	}
@@ -531,17 +531,18 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 	http.Redirect(w, r, back, http.StatusSeeOther)
 }
 
-// fitErrorWords says why a saved answer is not fitted, for the
-// facilitator: the field, the rule and the value, without the package's
-// prefix, and, for an answer an earlier build of Parley saved under
-// looser rules (record.EarlierRule: this version never saves one), that
-// it was, so it does not read as today's save gone wrong.
-func fitErrorWords(err error) string {
+// fitErrorWords says why a saved answer of q is not fitted, for the
+// facilitator: the answer's part as the form names it ("the 5% value"),
+// the rule and the value, without the package's prefix and field path,
+// and, for an answer an earlier build of Parley saved under looser rules
+// (record.EarlierRule: this version never saves one), that it was, so it
+// does not read as today's save gone wrong.
+func fitErrorWords(err error, q workshop.Question) string {
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) {
 		return err.Error()
 	}
-	words := ie.Field + " " + string(ie.Rule)
+	words := answerPartWords(q, ie.Field) + " " + string(ie.Rule)
 	if ie.Detail != "" {
 		words += " (" + ie.Detail + ")"
 	}
@@ -549,4 +550,24 @@ func fitErrorWords(err error) string {
 		words = "saved by an earlier version of Parley, whose rules took it; today's rules refuse it: " + words
 	}
 	return words
+}
+
+// answerPartWords names the part of an answer to q that a field of the
+// answer's rules names, as the answer form labels it.
+func answerPartWords(q workshop.Question, field string) string {
+	switch field {
+	case "lowest":
+		return "the lowest plausible value"
+	case "best":
+		return "the best estimate"
+	case "highest":
+		return "the highest plausible value"
+	case "values":
+		return "the values"
+	}
+	var i int
+	if _, err := fmt.Sscanf(field, "values[%d]", &i); err == nil && i >= 0 && i < len(q.Probs) {
+		return "the " + chart.FormatPercent(q.Probs[i]) + " value"
+	}
+	return field
 }
