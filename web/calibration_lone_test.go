@@ -28,20 +28,7 @@ func TestSteadinessOfALonePanelSaysNothingWasTested(t *testing.T) {
 			t.Fatal(err)
 		}
 	}
-	_, hash, err := newToken()
-	if err != nil {
-		t.Fatal(err)
-	}
-	e := workshop.Expert{WorkshopID: ws.ID, Name: "Sole Expert"}
-	if err := h.db.AddExpert(ctx, &e, hash); err != nil {
-		t.Fatal(err)
-	}
-	for q, v := range map[int64][]float64{target.ID: {0.2, 0.3, 0.5}, seed.ID: {0.1, 0.3, 0.5}} {
-		rv := workshop.Revision{QuestionID: q, ExpertID: e.ID, Answer: workshop.Answer{Values: v}}
-		if err := h.db.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
+	h.expertAnswering(ws.ID, "Sole Expert", []int64{target.ID, seed.ID}, []float64{0.2, 0.3, 0.5}, []float64{0.1, 0.3, 0.5})
 	_, body := h.get(calibrationPath(ws.ID))
 	if !strings.Contains(body, `id="robustness"`) {
 		t.Fatal("no robustness section")
@@ -71,18 +58,7 @@ func TestPerformanceChoiceWaitsForTheScores(t *testing.T) {
 		t.Fatal(err)
 	}
 	for _, name := range []string{"First Expert", "Second Expert"} {
-		_, hash, err := newToken()
-		if err != nil {
-			t.Fatal(err)
-		}
-		e := workshop.Expert{WorkshopID: ws.ID, Name: name}
-		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
-			t.Fatal(err)
-		}
-		rv := workshop.Revision{QuestionID: seed.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: []float64{0.1, 0.3, 0.5}}}
-		if err := h.db.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
+		h.expertAnswering(ws.ID, name, []int64{seed.ID}, []float64{0.1, 0.3, 0.5})
 	}
 	_, body := h.get(calibrationPath(ws.ID))
 	if !strings.Contains(body, `id="weights"`) {

@@ -1135,18 +1135,7 @@ func TestScoringRefusalNamesTheAnswer(t *testing.T) {
 	near := math.Nextafter(1e300, 0)
 	answers := map[string][]float64{"Ines": {1e-3, 2e-2, 0.4}, "Tomas": {1e298, 5e299, near}}
 	for _, name := range []string{"Ines", "Tomas"} {
-		_, hash, err := newToken()
-		if err != nil {
-			t.Fatal(err)
-		}
-		e := workshop.Expert{WorkshopID: ws.ID, Name: name}
-		if err := h.db.AddExpert(ctx, &e, hash); err != nil {
-			t.Fatal(err)
-		}
-		rv := workshop.Revision{QuestionID: q.ID, ExpertID: e.ID, Answer: workshop.Answer{Values: answers[name]}}
-		if err := h.db.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
+		h.expertAnswering(ws.ID, name, []int64{q.ID}, answers[name])
 	}
 	if err := h.db.SetTrueValue(ctx, q.ID, 0.05, false, ""); err != nil {
 		t.Fatal(err)
@@ -1301,21 +1290,7 @@ func TestCustomWeightsComeBackAsTyped(t *testing.T) {
 func TestPoolOnFewerQuestionsIsSaidSo(t *testing.T) {
 	p := newSeedPanel(t)
 	h := p.h
-	ctx := context.Background()
-	_, hash, err := newToken()
-	if err != nil {
-		t.Fatal(err)
-	}
-	eli := workshop.Expert{WorkshopID: p.ws.ID, Name: "Eli Moss"}
-	if err := h.db.AddExpert(ctx, &eli, hash); err != nil {
-		t.Fatal(err)
-	}
-	for j, v := range [][]float64{{0.2, 0.35, 0.5}, {0.3, 0.5, 0.7}} {
-		rv := workshop.Revision{QuestionID: p.seeds[j].ID, ExpertID: eli.ID, Answer: workshop.Answer{Values: v}}
-		if err := h.db.SaveRevision(ctx, &rv); err != nil {
-			t.Fatal(err)
-		}
-	}
+	h.expertAnswering(p.ws.ID, "Eli Moss", []int64{p.seeds[0].ID, p.seeds[1].ID}, []float64{0.2, 0.35, 0.5}, []float64{0.3, 0.5, 0.7})
 	p.enterTruths(t, false)
 	_, body := h.get(p.path() + "?alpha=0.9")
 	pool := block(body, "scores-table-pool")

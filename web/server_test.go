@@ -410,3 +410,26 @@ func (h *harness) nextRound(t *testing.T, wsID int64) {
 		}
 	}
 }
+
+// expertAnswering adds an expert named name to workshop ws through the
+// store (a link made and not kept) and saves their answer values[i] to
+// question qs[i], in that order.
+func (h *harness) expertAnswering(ws int64, name string, qs []int64, values ...[]float64) workshop.Expert {
+	h.t.Helper()
+	ctx := context.Background()
+	_, hash, err := newToken()
+	if err != nil {
+		h.t.Fatal(err)
+	}
+	e := workshop.Expert{WorkshopID: ws, Name: name}
+	if err := h.db.AddExpert(ctx, &e, hash); err != nil {
+		h.t.Fatal(err)
+	}
+	for i, q := range qs {
+		rv := workshop.Revision{QuestionID: q, ExpertID: e.ID, Answer: workshop.Answer{Values: values[i]}}
+		if err := h.db.SaveRevision(ctx, &rv); err != nil {
+			h.t.Fatal(err)
+		}
+	}
+	return e
+}
