@@ -53,9 +53,14 @@ func startServe(t *testing.T, c serveConfig) (base string, stdout, stderr *syncB
 	go func() { done <- serve(ctx, c, stdout, stderr) }()
 	deadline := time.Now().Add(20 * time.Second)
 	for time.Now().Before(deadline) {
-		if m := servingAt.FindStringSubmatch(stdout.String()); m != nil {
-			base = m[1]
-			break
+		// The sign-in line follows "serving at" in a second write: wait
+		// for it too, or a test reading it may find it not yet printed
+		// (TestServeTLS failed so once in CI).
+		if out := stdout.String(); signInPrinted.MatchString(out) {
+			if m := servingAt.FindStringSubmatch(out); m != nil {
+				base = m[1]
+				break
+			}
 		}
 		select {
 		case err := <-done:
@@ -77,6 +82,9 @@ func startServe(t *testing.T, c serveConfig) (base string, stdout, stderr *syncB
 	t.Cleanup(func() { _ = stop() })
 	return base, stdout, stderr, stop
 }
+
+// signInPrinted is either sign-in line serve prints after "serving at".
+var signInPrinted = regexp.MustCompile(`(?m)^parley: facilitator sign-in .*\n`)
 
 var signInLine = regexp.MustCompile(`facilitator sign-in address \(works once; keep it private\): (http://[^ ]+)/signin#([A-Za-z0-9_-]{43})\n`)
 
