@@ -287,6 +287,23 @@ func (d ScaledBeta) CDFFunc() func(float64) float64 {
 // infinite, and below 1 the density is. Outside [0, 1] the density and its
 // slope are 0.
 func (d Beta) CurveFunc() func(u float64) (cdf, pdf, slope float64) {
+	return d.curveFunc(true)
+}
+
+// DensitySlopeFunc is CurveFunc without the CDF: the density and its
+// slope alone, the same numbers at a fraction of the cost (no continued
+// fraction), for a drawing that has the CDF at its knots by other means.
+func (d Beta) DensitySlopeFunc() func(u float64) (pdf, slope float64) {
+	f := d.curveFunc(false)
+	return func(u float64) (float64, float64) {
+		_, pdf, slope := f(u)
+		return pdf, slope
+	}
+}
+
+// curveFunc is CurveFunc, whose CDF is computed only if withCDF (else it
+// is NaN inside (0, 1)).
+func (d Beta) curveFunc(withCDF bool) func(u float64) (cdf, pdf, slope float64) {
 	if d.Validate() != nil {
 		nan := math.NaN()
 		return func(float64) (float64, float64, float64) { return nan, nan, nan }
@@ -331,13 +348,17 @@ func (d Beta) CurveFunc() func(u float64) (cdf, pdf, slope float64) {
 			return 1, f, s
 		}
 		v := 1 - u
-		lo, _, k := c.tailsK(u, v)
-		var f float64
+		lo, f := math.NaN(), 0.0
+		var k float64
+		if withCDF {
+			lo, _, k = c.tailsK(u, v)
+		}
 		if k > 0 && !math.IsInf(k, 0) {
 			f = k / u / v
 		} else {
-			// The power term under- or overflows where the density need
-			// not (u or 1 − u subnormal): the density in logs.
+			// Without the CDF's power term, or where it under- or
+			// overflows while the density need not (u or 1 − u
+			// subnormal): the density in logs.
 			f = c.density(u, v)
 		}
 		slope := 0.0

@@ -135,3 +135,30 @@ func TestLogSubnormal(t *testing.T) {
 		t.Errorf("ln 1e-300: %v, want %v", got, want)
 	}
 }
+
+// TestDensitySlopeFuncIsCurveFuncsDensity checks DensitySlopeFunc, which
+// skips the CDF, against CurveFunc's density and slope (checked above
+// against the package's PDF and gonum's finite differences), inside the
+// range, at the bounds and outside.
+func TestDensitySlopeFuncIsCurveFuncsDensity(t *testing.T) {
+	shapes := []Beta{{2.022, 40.59}, {2, 2}, {4.2, 17.9}, {55, 3.5}, {2000, 50000}, {1.5, 7}, {1, 3}, {0.5, 4}}
+	for _, d := range shapes {
+		full, f := d.CurveFunc(), d.DensitySlopeFunc()
+		for _, u := range []float64{-0.1, 0, 1e-300, 1e-6, 0.001, 0.05, 0.3, 0.5, 0.7, 0.95, 0.999, 1 - 1e-6, 1, 1.2} {
+			_, wantPDF, wantSlope := full(u)
+			pdf, slope := f(u)
+			if !sameOrClose(pdf, wantPDF) || !sameOrClose(slope, wantSlope) {
+				t.Errorf("%v at %v: density %v and slope %v, CurveFunc %v and %v", d, u, pdf, slope, wantPDF, wantSlope)
+			}
+		}
+	}
+}
+
+// sameOrClose is relClose at 1e-12 for finite numbers, equality for
+// infinities and zeros.
+func sameOrClose(a, b float64) bool {
+	if a == b {
+		return true
+	}
+	return !math.IsInf(a, 0) && !math.IsInf(b, 0) && relClose(a, b, 1e-12)
+}
