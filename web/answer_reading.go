@@ -542,9 +542,10 @@ func strictlyBetween(q workshop.Question, f *Form) string {
 // what the largest would be as a proportion; typed with a % sign, every
 // value must have one (the warning said "or type 8%", and an expert who
 // did so for the largest alone kept 0.02% and 0.04% beside it, with no
-// warning left, since a value with its sign ends it). A rare event's percentages
-// meet the warning too; it asks nothing of them. "" where it does not
-// apply.
+// warning left, since a value with its sign ends it). A rare event's
+// percentages meet the warning too, which would be a false alarm that
+// will not go: its last sentence tells an expert who does mean 0.08% how
+// to say so, the % sign, which ends it. "" where it does not apply.
 func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) string {
 	if !q.ValuesInPercent() || f.Value("unit") != unitPercent {
 		return ""
@@ -574,5 +575,6 @@ func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) strin
 	typed := strings.TrimSpace(f.Value(names[largest]))
 	return sp.pick("You chose percentages, so ", "The form is set to percentages, so ") + typed + " is read as " + typed + "%. " +
 		sp.pick("If you meant", "If %s meant") + " proportions, " + typed + " is " + chart.FormatPercent(values[largest]*100) +
-		": choose “As proportions” above, or type every value as a percentage with its % sign, such as " + chart.FormatPercent(values[largest]*100) + "."
+		": choose “As proportions” above, or type every value as a percentage with its % sign, such as " + chart.FormatPercent(values[largest]*100) + ". " +
+		sp.pick("If you do mean ", "If %s does mean ") + typed + "%, type each value with its % sign (" + typed + "%) and this note goes away."
 }
