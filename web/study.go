@@ -5,6 +5,7 @@ import (
 	"errors"
 	"fmt"
 	"net/http"
+	"slices"
 	"sort"
 	"strconv"
 	"strings"
@@ -431,6 +432,28 @@ func compare(priors []elicit.NamedPrior, s, n int, id string) (*sensitivityBlock
 	return b, nil
 }
 
+// ruleNumberedPrior is broken by a plan's address that names its prior
+// by a number, as addresses did when the priors were numbered by their
+// place in the list: that place may hold another prior now (an expert who
+// answers since moves the pools down), so the plan is not drawn under a
+// guess.
+const ruleNumberedPrior elicit.Rule = "the address names the prior by its place in the list, as an earlier version of Parley did; that place may now hold another prior, so choose it again from the list"
+
+// numberedPrior reports whether a prior's key is a bare number: no key
+// today is (they are expert-N, pool-…, agreed, posterior).
+func numberedPrior(v string) bool {
+	v = strings.TrimSpace(v)
+	if v == "" {
+		return false
+	}
+	for _, r := range v {
+		if r < '0' || r > '9' {
+			return false
+		}
+	}
+	return true
+}
+
 // planStudy reads the planning form (defaults when it is empty) and
 // computes the plan by the functions `parley plan` calls: the prior
 // predictive (elicit.PriorPredictive, PredictiveMoments,
@@ -452,6 +475,11 @@ func planStudy(ctx context.Context, p planView) planView {
 	values := make([]string, len(p.Choices))
 	for i, c := range p.Choices {
 		values[i] = c.Value
+	}
+	if v := strings.TrimSpace(f.Value("prior")); numberedPrior(v) && !slices.Contains(values, v) {
+		// An address made before priors were named by key: its number was
+		// a place in the list, which may now hold another prior.
+		f.set("prior", string(ruleNumberedPrior))
 	}
 	chosen := f.Choice("prior", "", values...)
 	for _, c := range p.Choices {

@@ -295,3 +295,26 @@ func TestStudyPlansUnderTheEqualPoolWhenThePoolInForceDoesNotForm(t *testing.T) 
 		t.Errorf("planned under %v; want the equal-weight pool", m)
 	}
 }
+
+// An address from before the priors were named by key numbers its prior
+// (prior=0): the plan is refused with a message that says why and asks
+// for the prior again, not the bare "must be one of the offered choices",
+// and no plan is drawn under a guess.
+func TestNumberedPriorAddressSaysToChooseAgain(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	sp := studyPath(ws.ID, qs[0].ID)
+	res, body := h.get(sp + "?prior=0&trials=60")
+	if res.StatusCode != http.StatusUnprocessableEntity {
+		t.Fatalf("status %d, want 422", res.StatusCode)
+	}
+	if want := html.EscapeString(string(ruleNumberedPrior)); !strings.Contains(body, want) {
+		t.Errorf("the page does not say %q: %.3000s", ruleNumberedPrior, body)
+	}
+	if strings.Contains(body, "<h3>Planned under: ") {
+		t.Error("a plan was drawn for a numbered prior")
+	}
+	// A key that is not a number keeps the general message.
+	if _, body := h.get(sp + "?prior=expert-x&trials=60"); !strings.Contains(body, string(ruleChoice)) || strings.Contains(body, "earlier version") {
+		t.Errorf("an unknown key: want %q alone", ruleChoice)
+	}
+}
