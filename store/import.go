@@ -23,6 +23,8 @@ import (
 // gets a new ID and every reference is remapped, including expert IDs
 // inside event details. Experts are
 // imported without access tokens: the facilitator issues new links.
+// A record with a fact dated more than record.MaxAhead after this
+// machine's clock is refused (record.RuleAheadOfClock).
 // Each revision's fit is checked against a fresh fit of its answer
 // (record.ValidateFits) and the fresh one kept with it; pools are not
 // imported but recomputed from the judgements.
@@ -42,6 +44,11 @@ func (db *DB) ImportChecked(ctx context.Context, c record.Checked) (int64, error
 	rec, fits := c.Record, c.Fits
 	if len(fits) != len(rec.Revisions) {
 		return 0, fmt.Errorf("store: import: %d fits for %d revisions", len(fits), len(rec.Revisions))
+	}
+	// The workshop's next facts are stamped after its latest (stamp): a
+	// fact dated ahead of this clock would pin them to its time.
+	if err := rec.CheckNotAhead(now()); err != nil {
+		return 0, err
 	}
 	var workshopID int64
 	err := db.write(ctx, func(tx *sql.Tx) error {
