@@ -1,8 +1,12 @@
 package store
 
 import (
+	"bytes"
 	"context"
+	"fmt"
+	"log/slog"
 	"path/filepath"
+	"strings"
 	"testing"
 	"time"
 
@@ -106,5 +110,75 @@ func TestAClockSetBackStampsAfterTheLatestFact(t *testing.T) {
 	must(t, db.SaveRevision(ctx, &r3))
 	if !r3.At.Equal(later) {
 		t.Fatalf("with the clock ahead again a save is stamped %v, want the clock's %v", r3.At, later)
+	}
+}
+
+// While the clock is behind a workshop's latest fact, its facts are
+// stamped after that fact, not at the clock's time: silently, so a wrong
+// clock (this one set back, or an imported record's ahead) went unseen.
+// A stamp pushed more than a minute past the clock logs one warning for
+// the workshop, naming it and both times; a push within the minute (a
+// time service's step) logs none, nor does another workshop whose stamps
+// keep to the clock; once the clock has caught up, falling behind again
+// warns again.
+func TestStampsAheadOfTheClockAreWarnedOfOncePerWorkshop(t *testing.T) {
+	ctx := context.Background()
+	db, err := Open(filepath.Join(t.TempDir(), "parley.db"))
+	must(t, err)
+	defer db.Close()
+	var logs bytes.Buffer
+	db.SetLogger(slog.New(slog.NewTextHandler(&logs, nil)))
+	warnings := func() []string {
+		var ws []string
+		for _, l := range strings.Split(strings.TrimSpace(logs.String()), "\n") {
+			if strings.Contains(l, "level=WARN") {
+				ws = append(ws, l)
+			}
+		}
+		return ws
+	}
+	t0 := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+	at := t0
+	setClock(t, func() time.Time { return at })
+	p := seed(t, db)
+	q, ws := p.qs[0].ID, p.w.ID
+	save := func(expert int) workshop.Revision {
+		t.Helper()
+		r := workshop.Revision{QuestionID: q, ExpertID: p.experts[expert].ID, Answer: quantileAnswer(0.3)}
+		must(t, db.SaveRevision(ctx, &r))
+		return r
+	}
+	save(0)
+
+	at = t0.Add(-30 * time.Second) // a time service's step back
+	save(1)
+	if w := warnings(); len(w) != 0 {
+		t.Fatalf("stamps 30 s ahead of the clock warned: %q", w)
+	}
+
+	at = t0.Add(-2 * time.Hour) // the clock set back two hours
+	save(2)
+	save(0)
+	must(t, db.SetWeights(ctx, &workshop.Weights{WorkshopID: ws, Scheme: workshop.WeightsEqual, Reason: "equal"}))
+	other := seed(t, db) // a workshop of its own keeps to the clock
+	r := workshop.Revision{QuestionID: other.qs[0].ID, ExpertID: other.experts[0].ID, Answer: quantileAnswer(0.3)}
+	must(t, db.SaveRevision(ctx, &r))
+	w := warnings()
+	if len(w) != 1 {
+		t.Fatalf("%d warnings after three writes two hours ahead of the clock, want 1:\n%s", len(w), logs.String())
+	}
+	for _, want := range []string{fmt.Sprintf("workshop=%d", ws), `title="Pump seal failures (invented)"`,
+		"latest_fact=2026-06-01T09:00:00.0000", "clock=2026-06-01T07:00:00Z", "ahead=2h0m0s", "check this machine's clock"} {
+		if !strings.Contains(w[0], want) {
+			t.Errorf("the warning does not say %q:\n%s", want, w[0])
+		}
+	}
+
+	at = t0.Add(time.Hour) // the clock caught up, then set back again
+	save(1)
+	at = t0
+	save(2)
+	if w := warnings(); len(w) != 2 || !strings.Contains(w[1], "latest_fact=2026-06-01T10:00:00Z") {
+		t.Fatalf("falling behind again after catching up: %d warnings, want 2:\n%s", len(w), logs.String())
 	}
 }

@@ -94,7 +94,7 @@ func (db *DB) EditQuestion(ctx context.Context, q workshop.Question, reason stri
 		if err != nil {
 			return fmt.Errorf("store: edit question: %w", err)
 		}
-		at, err := stamp(ctx, tx, old.WorkshopID)
+		at, err := db.stamp(ctx, tx, old.WorkshopID)
 		if err != nil {
 			return err
 		}
@@ -127,7 +127,7 @@ func (db *DB) SetQuestionRetired(ctx context.Context, questionID int64, retired 
 		if retired {
 			kind = workshop.EventQuestionRetired
 		}
-		at, err := stamp(ctx, tx, q.WorkshopID)
+		at, err := db.stamp(ctx, tx, q.WorkshopID)
 		if err != nil {
 			return err
 		}
@@ -152,7 +152,7 @@ func (db *DB) ReopenRound(ctx context.Context, workshopID int64, reason string) 
 		if _, err := tx.ExecContext(ctx, `UPDATE workshops SET round_open = 1 WHERE id = ?`, workshopID); err != nil {
 			return fmt.Errorf("store: reopen round: %w", err)
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}
@@ -181,7 +181,7 @@ func (db *DB) SetArchived(ctx context.Context, workshopID int64, archived bool, 
 			}
 			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the workshop is already " + state}
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}
@@ -317,7 +317,7 @@ func (db *DB) SetReasonWithheld(ctx context.Context, revisionID int64, withheld 
 		if (current == 1) == withheld {
 			return &elicit.InputError{Field: "action", Rule: workshop.RuleNothingChanged, Detail: "the reason is already " + map[bool]string{true: "withheld", false: "shown"}[withheld]}
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}

@@ -8,8 +8,11 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
+	"log/slog"
 	"net/url"
 	"path/filepath"
+	"sync"
+	"sync/atomic"
 	"time"
 
 	_ "github.com/mattn/go-sqlite3" // registers the "sqlite3" driver
@@ -25,6 +28,21 @@ type DB struct {
 	w    *sql.DB // the single writer
 	r    *sql.DB // readers
 	rows *rows   // rows every expert request reads (cache.go)
+	log  atomic.Pointer[slog.Logger]
+	// ahead holds the workshops whose stamps run ahead of the clock and
+	// have been warned of (stamp): one warning each while it lasts.
+	ahead sync.Map
+}
+
+// SetLogger sets where the store's warnings go (slog.Default until set).
+func (db *DB) SetLogger(l *slog.Logger) { db.log.Store(l) }
+
+// logger is the store's logger.
+func (db *DB) logger() *slog.Logger {
+	if l := db.log.Load(); l != nil {
+		return l
+	}
+	return slog.Default()
 }
 
 // dsn builds the connection string. synchronous=FULL makes SQLite sync the

@@ -39,7 +39,7 @@ func (db *DB) SetWeights(ctx context.Context, w *workshop.Weights) error {
 		if err := workshopExists(ctx, tx, w.WorkshopID); err != nil {
 			return err
 		}
-		at, err := stamp(ctx, tx, w.WorkshopID) // in the writer's turn (SaveRevision)
+		at, err := db.stamp(ctx, tx, w.WorkshopID) // in the writer's turn (SaveRevision)
 		if err != nil {
 			return err
 		}
@@ -234,7 +234,7 @@ func (db *DB) AgreePrior(ctx context.Context, p *workshop.AgreedPrior) error {
 		if err != nil {
 			return fmt.Errorf("store: agree prior: %w", err)
 		}
-		at, err := stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
+		at, err := db.stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
 		if err != nil {
 			return err
 		}

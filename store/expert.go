@@ -22,7 +22,7 @@ func (db *DB) AddExpert(ctx context.Context, e *workshop.Expert, tokenHash []byt
 		if err := workshopExists(ctx, tx, e.WorkshopID); err != nil {
 			return err
 		}
-		created, err := stamp(ctx, tx, e.WorkshopID) // in the writer's turn (SaveRevision)
+		created, err := db.stamp(ctx, tx, e.WorkshopID) // in the writer's turn (SaveRevision)
 		if err != nil {
 			return err
 		}
@@ -168,7 +168,7 @@ func (db *DB) expertDecision(ctx context.Context, expertID int64, kind workshop.
 		if _, err := tx.ExecContext(ctx, update, args...); err != nil {
 			return fmt.Errorf("store: expert %d: %s: %w", expertID, kind, err)
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}

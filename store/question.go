@@ -70,7 +70,7 @@ func (db *DB) AddQuestion(ctx context.Context, q *workshop.Question) error {
 		if err != nil {
 			return fmt.Errorf("store: add question: %w", err)
 		}
-		at, err := stamp(ctx, tx, q.WorkshopID)
+		at, err := db.stamp(ctx, tx, q.WorkshopID)
 		if err != nil {
 			return err
 		}
@@ -163,7 +163,7 @@ func (db *DB) SetTrueValue(ctx context.Context, questionID int64, value float64,
 			value, boolInt(reveal), questionID); err != nil {
 			return fmt.Errorf("store: set true value: %w", err)
 		}
-		at, err := stamp(ctx, tx, q.WorkshopID)
+		at, err := db.stamp(ctx, tx, q.WorkshopID)
 		if err != nil {
 			return err
 		}
@@ -229,7 +229,7 @@ func (db *DB) SetLogScale(ctx context.Context, questionID int64, on bool, reason
 			return fmt.Errorf("store: set log scale: %w", err)
 		}
 		detail, _ := json.Marshal(map[string]bool{"log_uniform_background": on})
-		at, err := stamp(ctx, tx, q.WorkshopID)
+		at, err := db.stamp(ctx, tx, q.WorkshopID)
 		if err != nil {
 			return err
 		}

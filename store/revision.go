@@ -41,7 +41,7 @@ func (db *DB) SaveRevision(ctx context.Context, r *workshop.Revision) error {
 		if err != nil {
 			return err
 		}
-		at, err := stamp(ctx, tx, ws)
+		at, err := db.stamp(ctx, tx, ws)
 		if err != nil {
 			return err
 		}
@@ -154,7 +154,7 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 		if err != nil {
 			return &workshop.RevisionRefused{Index: 0, Err: err}
 		}
-		at, err := stamp(ctx, tx, ws) // in the writer's turn (SaveRevision)
+		at, err := db.stamp(ctx, tx, ws) // in the writer's turn (SaveRevision)
 		if err != nil {
 			return err
 		}

@@ -34,14 +34,26 @@ func now() time.Time { return clock().UTC().Round(time.Microsecond) }
 // process writing to the file (the server and a command run beside it)
 // stamps alike; a workshop without a row (one created or imported before
 // the table) has it computed from its facts at its first write.
-func stamp(ctx context.Context, tx *sql.Tx, ws int64) (time.Time, error) {
+//
+// A stamp more than aheadMargin past the clock means a clock that is
+// wrong (this one behind, or one that ran ahead when the latest fact was
+// written): stamp logs one warning for the workshop, naming it and both
+// times, and another only after the clock has caught up and fallen
+// behind again.
+func (db *DB) stamp(ctx context.Context, tx *sql.Tx, ws int64) (time.Time, error) {
 	last, kept, err := latestFact(ctx, tx, ws)
 	if err != nil {
 		return time.Time{}, err
 	}
-	at := now()
+	clk := now()
+	at := clk
 	if !at.After(last) {
 		at = last.Add(time.Microsecond)
+	}
+	if at.Sub(clk) > aheadMargin {
+		db.warnAhead(ctx, tx, ws, last, clk)
+	} else if at.Equal(clk) {
+		db.ahead.Delete(ws)
 	}
 	if !kept {
 		return at, nil
@@ -52,6 +64,29 @@ func stamp(ctx context.Context, tx *sql.Tx, ws int64) (time.Time, error) {
 		return time.Time{}, fmt.Errorf("store: stamp: %w", err)
 	}
 	return at, nil
+}
+
+// aheadMargin is how far past the clock stamp may set a stamp before it
+// warns: past any clock step a time service makes to a clock kept right
+// (they correct by seconds), and far below the hours by which a clock showing
+// another zone's time is off.
+const aheadMargin = time.Minute
+
+// warnAhead logs, once for workshop ws until its stamps meet the clock
+// again, that its facts are stamped after its latest one, at last,
+// rather than at the clock's time clk.
+func (db *DB) warnAhead(ctx context.Context, tx *sql.Tx, ws int64, last, clk time.Time) {
+	if _, warned := db.ahead.LoadOrStore(ws, true); warned {
+		return
+	}
+	var title string
+	_ = tx.QueryRowContext(ctx, `SELECT title FROM workshops WHERE id = ?`, ws).Scan(&title)
+	db.logger().Warn("store: a workshop's latest fact is dated after this machine's clock, so its new facts are stamped just after "+
+		"that fact, not at the clock's time, until the clock passes it; check this machine's clock (or that of the machine "+
+		"an imported record of it came from)",
+		"workshop", ws, "title", title,
+		"latest_fact", last.UTC().Format(time.RFC3339Nano), "clock", clk.UTC().Format(time.RFC3339Nano),
+		"ahead", last.Sub(clk).Round(time.Second).String())
 }
 
 // latestFact is the time of workshop ws's latest fact, from fact_clock

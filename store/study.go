@@ -28,7 +28,7 @@ func (db *DB) RecordData(ctx context.Context, d *workshop.StudyData) error {
 		if err != nil {
 			return err
 		}
-		at, err := stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
+		at, err := db.stamp(ctx, tx, workshopID) // in the writer's turn (SaveRevision)
 		if err != nil {
 			return err
 		}

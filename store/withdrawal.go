@@ -41,7 +41,7 @@ func (db *DB) WithdrawRevision(ctx context.Context, workshopID, revisionID int64
 		if err := workshop.CheckWithdrawal(w, q, rv, reason); err != nil {
 			return err
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}

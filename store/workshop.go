@@ -82,7 +82,7 @@ func (db *DB) UpdateWorkshop(ctx context.Context, w workshop.Workshop) error {
 		if err != nil {
 			return fmt.Errorf("store: update workshop %d: %w", w.ID, err)
 		}
-		at, err := stamp(ctx, tx, w.ID)
+		at, err := db.stamp(ctx, tx, w.ID)
 		if err != nil {
 			return err
 		}
@@ -171,7 +171,7 @@ func (db *DB) SetRound(ctx context.Context, workshopID int64, round int, open bo
 			round, boolInt(open), workshopID); err != nil {
 			return fmt.Errorf("store: set round: %w", err)
 		}
-		at, err := stamp(ctx, tx, workshopID)
+		at, err := db.stamp(ctx, tx, workshopID)
 		if err != nil {
 			return err
 		}

@@ -133,6 +133,10 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		return notADatabase(c.db, err)
 	}
 	defer db.Close()
+	// The server's log: its requests' failures, and the store's warning
+	// of a workshop stamped ahead of this machine's clock.
+	logger := slog.New(slog.NewTextHandler(stderr, nil))
+	db.SetLogger(logger)
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
 	if _, err := db.PurgeSessions(ctx, time.Now()); err != nil {
 		return err
@@ -181,7 +185,7 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 
 	srv, err := web.New(db, web.Options{
 		BaseURL:       base,
-		Logger:        slog.New(slog.NewTextHandler(stderr, nil)),
+		Logger:        logger,
 		SecureCookies: c.tlsCert != "",
 		SaveBurst:     c.saveBurst,
 		PageBurst:     c.pageBurst,
