@@ -116,15 +116,18 @@ func saveRevision(ctx context.Context, tx *sql.Tx, r *workshop.Revision, values,
 
 // SaveRevisions appends several revisions in one transaction, each under
 // SaveRevision's rules: all are saved, or none (the error names the
-// first refused, a *workshop.RevisionRefused with its index). It is for judgements
-// the facilitator imports from a file.
+// first refused, a *workshop.RevisionRefused with its index). Every
+// revision must be on a question of the first one's workshop: they are
+// stamped by its clock (stamp). It is for judgements the facilitator
+// imports from a file.
 func (db *DB) SaveRevisions(ctx context.Context, rs []workshop.Revision) error {
-	return db.saveRevisions(ctx, rs, nil)
+	return db.saveRevisions(ctx, 0, rs, nil)
 }
 
-// saveRevisions saves rs in one transaction and then runs also, when
-// given, in it with the revisions' time.
-func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also func(context.Context, *sql.Tx, time.Time) error) error {
+// saveRevisions saves rs, all on questions of workshop ws (0: of the
+// first revision's workshop), in one transaction and then runs also,
+// when given, in it with the revisions' time.
+func (db *DB) saveRevisions(ctx context.Context, ws int64, rs []workshop.Revision, also func(context.Context, *sql.Tx, time.Time) error) error {
 	type encoded struct{ values, counts string }
 	enc := make([]encoded, len(rs))
 	for i := range rs {
@@ -150,9 +153,8 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 		if len(rs) == 0 {
 			return nil
 		}
-		ws, err := questionWorkshop(ctx, tx, rs[0].QuestionID)
-		if err != nil {
-			return &workshop.RevisionRefused{Index: 0, Err: err}
+		if err := sameWorkshop(ctx, tx, &ws, rs); err != nil {
+			return err
 		}
 		at, err := db.stamp(ctx, tx, ws) // in the writer's turn (SaveRevision)
 		if err != nil {
@@ -170,16 +172,40 @@ func (db *DB) saveRevisions(ctx context.Context, rs []workshop.Revision, also fu
 	})
 }
 
+// sameWorkshop checks, in tx, that every revision of rs is on a question
+// of workshop *ws, setting *ws to the first one's workshop where it is 0.
+// The revisions are stamped by that workshop's clock, and an answer
+// sheet's log entry is written to it: a revision on another workshop's
+// question would be saved there at a time its facts do not order, and
+// named by a log entry of a workshop it is not in.
+func sameWorkshop(ctx context.Context, tx *sql.Tx, ws *int64, rs []workshop.Revision) error {
+	for i, r := range rs {
+		in, err := questionWorkshop(ctx, tx, r.QuestionID)
+		if err != nil {
+			return &workshop.RevisionRefused{Index: i, Err: err}
+		}
+		if *ws == 0 {
+			*ws = in
+		}
+		if in != *ws {
+			return &workshop.RevisionRefused{Index: i, Err: fmt.Errorf(
+				"store: the answer of expert %d to question %d is of workshop %d, not of workshop %d, which the revisions are saved to; none was saved",
+				r.ExpertID, r.QuestionID, in, *ws)}
+		}
+	}
+	return nil
+}
+
 // SaveImportedRevisions is SaveRevisions for an answer sheet's rows: in
 // the same transaction it records EventAnswersImported for the workshop,
 // with imp as its detail and the revisions' time, so the record says
-// which file, and which rows of it, the judgements came from. All are
-// saved, or none.
+// which file, and which rows of it, the judgements came from. Every
+// revision must be on a question of workshopID. All are saved, or none.
 func (db *DB) SaveImportedRevisions(ctx context.Context, workshopID int64, rs []workshop.Revision, imp workshop.SheetImport) error {
 	if len(imp.Rows) != len(rs) {
 		return fmt.Errorf("store: %d revisions from %d rows of a sheet", len(rs), len(imp.Rows))
 	}
-	return db.saveRevisions(ctx, rs, func(ctx context.Context, tx *sql.Tx, at time.Time) error {
+	return db.saveRevisions(ctx, workshopID, rs, func(ctx context.Context, tx *sql.Tx, at time.Time) error {
 		// The event names the judgements it saved, so each can say
 		// which file and row it came from (workshop.SheetSources).
 		imp.Revisions = make([]int64, len(rs))
