@@ -182,3 +182,78 @@ func TestStampsAheadOfTheClockAreWarnedOfOncePerWorkshop(t *testing.T) {
 		t.Fatalf("falling behind again after catching up: %d warnings, want 2:\n%s", len(w), logs.String())
 	}
 }
+
+// A database below the schema version that made fact_clock (only the
+// migration tests write into one with today's code) is stamped by the
+// clock alone, as it was at those versions; stamp told it by the error's
+// text, "no such table: fact_clock", which a driver's wording may
+// change, and which a fact_clock removed by hand from a database of the
+// latest version gave too: that database's facts were then stamped by the
+// clock alone, silently, before facts already written. The schema's
+// version tells them apart: below fact_clock's, the clock stamps; once
+// the same database is migrated, its facts are stamped after the latest;
+// at that version without the table, the write fails and nothing is
+// written.
+func TestStampAtTheSchemaBeforeFactClock(t *testing.T) {
+	ctx := context.Background()
+	ms, err := loadMigrations()
+	must(t, err)
+	if n := ms[factClockVersion-1].name; n != "0015_fact_clock.sql" {
+		t.Fatalf("migration %d is %s, not the one that makes fact_clock", factClockVersion, n)
+	}
+	path := filepath.Join(t.TempDir(), "old.db")
+	db, err := open(path)
+	must(t, err)
+	defer func() { db.Close() }()
+	must(t, db.MigrateTo(ctx, factClockVersion-1))
+	t0 := time.Date(2026, 6, 1, 9, 0, 0, 0, time.UTC)
+	setClock(t, func() time.Time { return t0 })
+	w := workshop.Workshop{Title: "Written before fact_clock (invented)"}
+	must(t, db.CreateWorkshop(ctx, &w))
+	set := func() workshop.Weights {
+		t.Helper()
+		ws := workshop.Weights{WorkshopID: w.ID, Scheme: workshop.WeightsEqual, Reason: "equal"}
+		must(t, db.SetWeights(ctx, &ws))
+		return ws
+	}
+	set()
+	setClock(t, func() time.Time { return t0.Add(-time.Hour) })
+	if got := set(); !got.At.Equal(t0.Add(-time.Hour)) {
+		t.Fatalf("below fact_clock's version weights are stamped %v, want the clock's %v", got.At, t0.Add(-time.Hour))
+	}
+
+	// The same database, migrated: stamped after its latest fact.
+	must(t, db.Migrate(ctx))
+	if got := set(); !got.At.Equal(t0.Add(time.Microsecond)) {
+		t.Fatalf("after the upgrade weights are stamped %v, want just after the latest fact at %v", got.At, t0)
+	}
+
+	// fact_clock removed from a database of the latest version.
+	n := len(mustWeights(t, db, w.ID))
+	if _, err := db.w.ExecContext(ctx, `DROP TABLE fact_clock`); err != nil {
+		t.Fatal(err)
+	}
+	for _, reopen := range []bool{false, true} {
+		if reopen {
+			db.Close()
+			if db, err = Open(path); err != nil {
+				t.Fatal(err)
+			}
+		}
+		err := db.SetWeights(ctx, &workshop.Weights{WorkshopID: w.ID, Scheme: workshop.WeightsEqual, Reason: "equal"})
+		if err == nil || !strings.Contains(err.Error(), "fact_clock") {
+			t.Fatalf("a write without fact_clock at the latest version (reopened %v): %v; want it refused", reopen, err)
+		}
+		if got := len(mustWeights(t, db, w.ID)); got != n {
+			t.Fatalf("a refused write left %d weight sets, want %d", got, n)
+		}
+	}
+}
+
+// mustWeights is workshop ws's history of weight sets.
+func mustWeights(t *testing.T, db *DB, ws int64) []workshop.Weights {
+	t.Helper()
+	h, err := db.WeightHistory(context.Background(), ws)
+	must(t, err)
+	return h
+}

@@ -32,6 +32,9 @@ type DB struct {
 	// ahead holds the workshops whose stamps run ahead of the clock and
 	// have been warned of (stamp): one warning each while it lasts.
 	ahead sync.Map
+	// clockKept is set once the schema is known to have fact_clock
+	// (keepsClock).
+	clockKept atomic.Bool
 }
 
 // SetLogger sets where the store's warnings go (slog.Default until set).

@@ -5,7 +5,6 @@ import (
 	"database/sql"
 	"errors"
 	"fmt"
-	"strings"
 	"time"
 )
 
@@ -41,7 +40,7 @@ func now() time.Time { return clock().UTC().Round(time.Microsecond) }
 // times, and another only after the clock has caught up and fallen
 // behind again.
 func (db *DB) stamp(ctx context.Context, tx *sql.Tx, ws int64) (time.Time, error) {
-	last, kept, err := latestFact(ctx, tx, ws)
+	last, kept, err := db.latestFact(ctx, tx, ws)
 	if err != nil {
 		return time.Time{}, err
 	}
@@ -93,25 +92,50 @@ func (db *DB) warnAhead(ctx context.Context, tx *sql.Tx, ws int64, last, clk tim
 // or, without a row, from the facts themselves (the zero time when there
 // are none). Stored times are parsed, not compared as text: RFC 3339 with
 // its trailing zeros dropped does not sort as text. kept is false in a
-// database below the version that made fact_clock, which only the
-// migration tests write into, with today's code: the clock alone stamps
-// there, as it did at those versions.
-func latestFact(ctx context.Context, tx *sql.Tx, ws int64) (last time.Time, kept bool, err error) {
+// database below the version that made fact_clock (keepsClock), which
+// only the migration tests write into, with today's code: the clock alone
+// stamps there, as it did at those versions.
+func (db *DB) latestFact(ctx context.Context, tx *sql.Tx, ws int64) (last time.Time, kept bool, err error) {
+	if kept, err = db.keepsClock(ctx, tx); err != nil || !kept {
+		return time.Time{}, false, err
+	}
 	var s string
 	err = tx.QueryRowContext(ctx, `SELECT last FROM fact_clock WHERE workshop_id = ?`, ws).Scan(&s)
 	switch {
 	case err == nil:
 		last, err = parseTime(s)
 		return last, true, err
-	case errors.Is(err, sql.ErrNoRows):
-		kept = true
-	case strings.Contains(err.Error(), "no such table: fact_clock"):
-		return time.Time{}, false, nil
-	default:
+	case !errors.Is(err, sql.ErrNoRows):
 		return time.Time{}, false, fmt.Errorf("store: stamp: %w", err)
 	}
 	last, err = factsLatest(ctx, tx, ws)
-	return last, kept, err
+	return last, true, err
+}
+
+// factClockVersion is the schema version whose migration made fact_clock
+// (migrations/0015_fact_clock.sql).
+const factClockVersion = 15
+
+// keepsClock reports whether the database's schema has fact_clock, by its
+// version (schema_migrations), not by an error's text: a database at that
+// version or later must have it, so a fact_clock gone from one (removed
+// by hand) fails the write rather than stamping by the clock alone. The
+// version is read in tx until it has reached fact_clock's, and then
+// remembered, since a schema only goes up: once for every database Open
+// returns, which is at the latest.
+func (db *DB) keepsClock(ctx context.Context, tx *sql.Tx) (bool, error) {
+	if db.clockKept.Load() {
+		return true, nil
+	}
+	var v sql.NullInt64
+	if err := tx.QueryRowContext(ctx, `SELECT MAX(version) FROM schema_migrations`).Scan(&v); err != nil {
+		return false, fmt.Errorf("store: stamp: schema version: %w", err)
+	}
+	if v.Int64 < factClockVersion {
+		return false, nil
+	}
+	db.clockKept.Store(true)
+	return true, nil
 }
 
 // factsLatest is the time of workshop ws's latest fact, read from the
