@@ -144,13 +144,69 @@ type quickResult struct {
 // under the Beta b as a prior of the lead's own ("Analysed under"): its
 // α and β written to round-trip exactly, so that the plan uses the Beta
 // this page made, not one rounded for reading.
-func analysedUnderLink(ws int64, q workshop.Question, b elicit.Beta) string {
+func analysedUnderLink(ws int64, q workshop.Question, b elicit.Beta, plan url.Values) string {
 	v := url.Values{}
+	for k, vals := range plan {
+		v[k] = vals
+	}
 	v.Set("analysis", ownAnalysis)
 	v.Set("analysis_alpha", strconv.FormatFloat(b.Alpha, 'g', -1, 64))
 	v.Set("analysis_beta", strconv.FormatFloat(b.Beta, 'g', -1, 64))
-	v.Set("trials", strconv.Itoa(defaultPlanTrials))
+	if v.Get("trials") == "" {
+		v.Set("trials", strconv.Itoa(defaultPlanTrials))
+	}
 	return studyPath(ws, q.ID) + "?" + v.Encode() + "#plan"
+}
+
+// fieldPlan carries the study page's plan, as its address, through the
+// quick-priors page: the lead who went there from a plan to make an
+// analysis prior comes back to that plan (its trials, criterion and
+// prior planned under) with the prior made, not to a fresh one.
+const fieldPlan = "plan"
+
+// planCarried are the plan's fields the round trip keeps; the analysis
+// prior's are the ones it replaces.
+var planCarried = []string{"prior", "trials", "threshold", "direction", "confidence", "length", "level", "criterion", "interval", "woc_trim"}
+
+// planAddress is the study page's address of the plan in f, for the
+// quick-priors page to come back to: its carried fields alone.
+func planAddress(ws int64, q workshop.Question, f *Form) string {
+	v := url.Values{}
+	for _, k := range planCarried {
+		if x := f.Value(k); x != "" {
+			v.Set(k, x)
+		}
+	}
+	if len(v) == 0 {
+		return studyPath(ws, q.ID)
+	}
+	return studyPath(ws, q.ID) + "?" + v.Encode()
+}
+
+// carriedPlan is the plan the quick-priors form f came from, when it is
+// question q's (the study page of another question plans under its own
+// priors): its carried fields, or nil.
+func carriedPlan(ws int64, q workshop.Question, f *Form) url.Values {
+	u, err := url.Parse(f.Value(fieldPlan))
+	if err != nil || u.Path != studyPath(ws, q.ID) || u.Host != "" || u.Scheme != "" {
+		return nil
+	}
+	in, out := u.Query(), url.Values{}
+	for _, k := range planCarried {
+		if x := in.Get(k); x != "" {
+			out.Set(k, x)
+		}
+	}
+	return out
+}
+
+// quickPriorsFrom is the quick-priors page's address from the study page
+// of q, with its plan f to come back to.
+func quickPriorsFrom(ws int64, q workshop.Question, f *Form) string {
+	v := url.Values{}
+	v.Set("question", strconv.FormatInt(q.ID, 10))
+	v.Set(fieldPlan, planAddress(ws, q, f))
+	return quickPriorsPath(ws) + "?" + v.Encode()
 }
 
 // proportion says the construction is on [0, 1], where α + β counts
@@ -197,6 +253,9 @@ type quickView struct {
 	// Unavailable says why one of the interval's two methods cannot make
 	// a Beta when the other can (readQuick).
 	Unavailable []string
+	// PlanFrom names the question whose study plan the page was reached
+	// from ("Q1"), which the priors made for it link back to; "" if none.
+	PlanFrom string
 }
 
 func (s *Server) quickPriors(w http.ResponseWriter, r *http.Request) {
@@ -228,13 +287,24 @@ func (s *Server) showQuickPriors(w http.ResponseWriter, r *http.Request, ws work
 			v.Questions = append(v.Questions, q)
 		}
 	}
+	for _, q := range v.Questions {
+		if strconv.FormatInt(q.ID, 10) == f.Value("question") && q.IsProportion() && carriedPlan(ws.ID, q, f) != nil {
+			v.PlanFrom = "Q" + strconv.Itoa(q.Position)
+		}
+	}
 	status := http.StatusOK
-	if len(f.Values) > 0 && len(v.Questions) > 0 {
+	// Arriving with only the question and the plan to come back to (from
+	// the study page) is not a construction asked for.
+	asked := false
+	for k := range f.Values {
+		asked = asked || (k != "question" && k != fieldPlan)
+	}
+	if asked && len(v.Questions) > 0 {
 		v.Question, v.Results, v.Unavailable = readQuick(f, v.Questions)
 	}
 	if v.Question != nil && v.Question.IsProportion() {
 		for i := range v.Results {
-			v.Results[i].Plan = analysedUnderLink(ws.ID, *v.Question, v.Results[i].Construction.Dist.Beta)
+			v.Results[i].Plan = analysedUnderLink(ws.ID, *v.Question, v.Results[i].Construction.Dist.Beta, carriedPlan(ws.ID, *v.Question, f))
 		}
 	}
 	if v.Question != nil {
