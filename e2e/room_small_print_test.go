@@ -32,13 +32,13 @@ const readRoomSmallPrint = `(() => {
 
 // TestRoomSmallPrintReadsOnAProjector: at 1920×1080 the keys' hint at the
 // room view's foot read at 16.9 px and the banner that the workshop is
-// invented at 17.3 px, under every other word on the screen. On a screen
-// that wide they are now set in the smallest type the room uses (1.05vw,
-// 20.2 px), on the picture, the prior display and the reasons display,
-// each on one line; the median strip's letters keep their 18 px (their
-// size is the strip's own); and every state still fits its screen without
-// scrolling at 1024×768, 1366×768 and 1920×1080, where the smaller
-// screens keep their sizes.
+// invented at 17.3 px, under every other word on the screen; at 1366×768
+// 12.0 and 12.8 px, at 1024×768 11.5 and 12.8 px. They are now at least
+// 20 px at 1920×1080 (the smallest type the room uses, 1.05vw), 16 px at
+// 1366×768 and 14 px at 1024×768, on the picture, the prior display and
+// the reasons display, each on one line; the median strip's letters keep
+// their 18 px (their size is the strip's own); and every state still fits
+// its screen without scrolling, the header's first line one line.
 func TestRoomSmallPrintReadsOnAProjector(t *testing.T) {
 	site, d := startDemo(t)
 	br := startBrowser(t)
@@ -54,16 +54,23 @@ func TestRoomSmallPrintReadsOnAProjector(t *testing.T) {
 			fac.open(room + st.query)
 			got := eval[roomSmallPrint](fac, "the room's small print", readRoomSmallPrint)
 			t.Logf("the %s at %d×%d: keys %.1f px (%.2f lines), banner %.1f px (%.2f lines), median letters %.1f px", st.name, sz[0], sz[1], got.Keys, got.KeysLines, got.Banner, got.BannerLines, got.MedianLetter)
+			// Read from the back of a room: at least 14 px on a 1024×768
+			// projector, 16 px at 1366×768 and 20 px at 1920×1080
+			// (common practice for projected small print, no source).
+			least := map[int64]float64{1024: 14, 1366: 16, 1920: 20}[sz[0]]
+			if got.Keys < least-0.05 || got.Banner < least-0.05 {
+				t.Errorf("the %s at %d×%d: the keys' hint in %.1f px, the banner in %.1f px; want at least %.0f", st.name, sz[0], sz[1], got.Keys, got.Banner, least)
+			}
 			if sz[0] == 1920 {
-				if got.Keys < 20 || got.Banner < 20 {
-					t.Errorf("the %s at 1920×1080: the keys' hint in %.1f px, the banner in %.1f px; want at least 20", st.name, got.Keys, got.Banner)
-				}
 				if st.name == "picture" && (got.MedianLetter < 17.5 || got.MedianLetter > 18.5) {
 					t.Errorf("the picture at 1920×1080: the median strip's letters at %.1f px, want their 18", got.MedianLetter)
 				}
 			}
 			if got.BannerLines > 1.2 || got.KeysLines > 1.2 {
 				t.Errorf("the %s at %d×%d: the banner takes %.2f lines, the keys' hint %.2f; want one each", st.name, sz[0], sz[1], got.BannerLines, got.KeysLines)
+			}
+			if w := eval[roomWhere](fac, "the first line", readRoomWhere); w.Lines > 1.2 {
+				t.Errorf("the %s at %d×%d: the header's first line takes %.2f lines", st.name, sz[0], sz[1], w.Lines)
 			}
 			if st.name == "reasons" {
 				// No picture here: the page itself is the screen.
