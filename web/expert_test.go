@@ -859,7 +859,9 @@ func regexpFind(body, re string) string {
 // wideOnly drops a page's compact drawings (the ones a phone shows), so
 // that counts of curves and points read each picture once.
 func wideOnly(body string) string {
-	return regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-compact".*?</svg>`).ReplaceAllString(body, "")
+	body = regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-compact".*?</svg>`).ReplaceAllString(body, "")
+	// The room's tall drawing (chart.PanelView.Tall) is drawn wide too.
+	return regexp.MustCompile(`(?s)<svg class="chart-svg chart-wide"[^>]* aria-labelledby="[^"]*-tall-title .*?</svg>`).ReplaceAllString(body, "")
 }
 
 // An outer value the curve cannot reach is pointed out to the expert in

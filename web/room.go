@@ -326,7 +326,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if fb.poolErr == nil {
 			curves = append(curves, poolCurve(fb.pool))
 		}
-		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth, Room: true}
+		v.Panel = &chart.PanelView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: curves, Truth: md.Truth, Room: true, Tall: true}
 		v.ChartNotes = chart.PanelNotes(*v.Panel)
 	}
 	v.Reasons = fb.reasons(0)

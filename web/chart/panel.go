@@ -51,6 +51,13 @@ type PanelView struct {
 	// leaves the marks to the page, which names them in its own type
 	// beside samples drawn as the marks are (MarkSample).
 	Marked bool
+	// Tall adds to the room's picture (Room) a third drawing, the wide one
+	// with plots a third taller (roomTall), for a projector no wider than
+	// 3:2 (room.css shows it there in place of the wide one). On a 4:3
+	// projector the picture's width binds: the wide drawing, as tall as
+	// its column's width draws it, left some 90 px blank under the notes
+	// at 1024×768, and the median strip beside it is as wide as it can be.
+	Tall bool
 }
 
 // marksGeom is the marked curve's median and 90% interval as a Panel
@@ -188,7 +195,7 @@ func truthWords(value string) string {
 
 type panelModel struct {
 	ID       string
-	Drawings []panelDrawing // wide, then compact
+	Drawings []panelDrawing // wide, then compact, then the room's tall one (PanelView.Tall)
 	Title    string
 	Desc     string
 	Legend   []legendGeom // the wide drawing's, for the table
@@ -257,6 +264,21 @@ func roomWide(l layout) layout {
 	return l
 }
 
+// roomTallPlots is how much taller roomTall draws the plots: on a
+// 1024×768 projector under the invented demo's wording of four lines the
+// picture's column is 616 px wide and leaves 403 px for the picture, a
+// viewBox 538 units tall at the wide drawing's width, where the wide
+// drawing takes 430; a shorter wording leaves more, a longer one less,
+// and a drawing taller than its place shrinks to it (style.css).
+const roomTallPlots = 1.3
+
+// roomTall is the room's layout l for a 4:3 projector (PanelView.Tall):
+// its plots roomTallPlots times as tall, shared as their heights are.
+func roomTall(l layout) layout {
+	l.DensityH, l.CDFH = math.Round(l.DensityH*roomTallPlots), math.Round(l.CDFH*roomTallPlots)
+	return l
+}
+
 func newPanelModel(v PanelView) panelModel {
 	m := panelModel{ID: v.ID, Units: v.Units}
 	if m.ID == "" {
@@ -272,15 +294,25 @@ func newPanelModel(v PanelView) panelModel {
 		m.Invalid = "No curves to draw yet."
 		return m
 	}
-	for i, lay := range layouts {
+	drawn := append([]layout(nil), layouts[:]...)
+	if v.Room && v.Tall {
+		drawn = append(drawn, wideLayout)
+	}
+	for i, lay := range drawn {
 		if v.Room {
 			lay.TickPx = roomTickPx
 			if lay.Name == wideLayout.Name && v.truth() == nil {
 				lay = roomWide(lay)
 			}
 		}
+		if i >= len(layouts) {
+			lay = roomTall(lay)
+		}
 		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
-		if i > 0 {
+		switch {
+		case i >= len(layouts):
+			d.ID += "-tall"
+		case i > 0:
 			d.ID += "-" + lay.Name
 		}
 		if t := v.truth(); t != nil {
