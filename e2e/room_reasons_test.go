@@ -705,6 +705,58 @@ func TestRoomSideWaitsForItsPlace(t *testing.T) {
 	shots.take(bare, "room-side-noscript-reasons-1920")
 }
 
+// TestRoomSideWithoutReasonsShowsAtOnce: a panel that gave no reasons
+// has a side column with no data-beside, no list and no link. It is seen
+// at once, room.js held back or not (room.css waits only for a side that
+// carries the list), and without script; room.js places nothing there.
+// Screenshots at the projector sizes and on a phone.
+func TestRoomSideWithoutReasonsShowsAtOnce(t *testing.T) {
+	_, d, fac := facilitatorOnDemo(t)
+	shots := newScreenshots(t)
+	fac.open(d.url + "/")
+	fac.postFromPage(d.url+"/round", "action=close")
+	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+	const seen = `(sel => { const e = document.querySelector(sel); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility === "visible"; })`
+	const bare = `(() => { const s = document.querySelector(".room-side"); return !!s && !s.hasAttribute("data-beside") && !s.hasAttribute("data-placed") && !s.querySelector(".room-reasons-more, .room-reasons-beside"); })()`
+	fac.viewport(1920, 1080, false)
+	fac.openHoldingScript(room, "room.js", func() {
+		if !eval[bool](fac, "the side before room.js", bare) {
+			t.Fatal("the side of a panel that gave no reasons carries data-beside, or something of the reasons")
+		}
+		if !eval[bool](fac, "the side before room.js", seen+`(".room-side")`) {
+			t.Error("before room.js has run, the side of a panel that gave no reasons is not seen")
+		}
+	}, false)
+	if err := fac.poll(stepTimeout, `document.readyState === "complete"`); err != nil {
+		t.Fatal(err)
+	}
+	if !eval[bool](fac, "the side after room.js", seen+`(".room-side")`) || !eval[bool](fac, "the side after room.js", bare) {
+		t.Error("after room.js, the side of a panel that gave no reasons is not seen, or was placed")
+	}
+	for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}, {phoneWidth, phoneHeight}} {
+		fac.viewport(sz[0], sz[1], sz[0] == phoneWidth)
+		fac.open(room)
+		if !eval[bool](fac, "the side", seen+`(".room-side")`) {
+			t.Errorf("%d×%d: the side is not seen", sz[0], sz[1])
+		}
+		if sz[0] != phoneWidth {
+			fitsScreen(t, fac, int(sz[0]), int(sz[1]))
+		}
+		shots.take(fac, "room-no-reasons-"+strconv.FormatInt(sz[0], 10))
+	}
+	// Without script: the side at once.
+	nos := fac.tab("the projector's tab without script")
+	nos.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
+		return err
+	}))
+	nos.viewport(1366, 768, false)
+	nos.open(room)
+	if !eval[bool](nos, "the side without script", seen+`(".room-side")`) {
+		t.Error("without script the side of a panel that gave no reasons is not seen")
+	}
+}
+
 // fourSitesWithReasons is a panel of four on the invented pump seals of
 // four sites, under a wording of two lines at 1280 px, each expert having
 // saved their answer again with the reason reason (a format taking the

@@ -474,7 +474,9 @@ func reasonsRange(p reasonsScreen, total int) string {
 
 // besideWord is the side column's data-beside: where the server lays
 // the reasons out for the smallest projector, "list" beside the picture
-// or "link" to the reasons display; none without reasons.
+// or "link" to the reasons display; "" without reasons, and the page
+// then writes no data-beside at all (room.js places only a side that
+// has one).
 func (v roomView) besideWord() string {
 	switch {
 	case len(v.Reasons) == 0:

@@ -338,3 +338,24 @@ func TestRoomCarriesReasonsALargerScreenMayHold(t *testing.T) {
 		t.Error("no reasons: the room's side carries a list or a link to them")
 	}
 }
+
+// TestRoomWithoutReasonsWritesNoBesideWord: a panel that gave no reasons
+// wrote data-beside="" on the side column, a word that says nothing
+// (room.js places only a side with a list and a link, room.css hides
+// only a side with a list). The attribute is now left out; the side is
+// there with its median strip, and nothing of the reasons is.
+func TestRoomWithoutReasonsWritesNoBesideWord(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	if r, _ := h.post(workshopPath(ws.ID)+"/round", url.Values{"action": {"close"}}); r.StatusCode != http.StatusSeeOther {
+		t.Fatal("close")
+	}
+	_, body := h.get(roomPath(ws.ID, qs[0].ID))
+	if !strings.Contains(body, `<section class="room-side"`) || !strings.Contains(body, "Where the medians lie") {
+		t.Fatal("the demo's room after round 1 shows no side column with its median strip")
+	}
+	for _, not := range []string{"data-beside", `class="room-reasons-more"`, `class="room-reasons-beside"`} {
+		if strings.Contains(body, not) {
+			t.Errorf("the room of a panel that gave no reasons carries %s", not)
+		}
+	}
+}
