@@ -316,6 +316,20 @@ func TestKnotsCDFFromTheDensity(t *testing.T) {
 		}
 		t.Logf("%v: %d knots, CDF at most %.1e off", d.Beta, len(ks), worst)
 	}
+	// The CDF never falls from knot to knot, also where a narrow curve's
+	// far tails are drawn in long pieces across a panel's whole window.
+	for _, d := range append(smoothCases, sbeta(3, 60, 0, 1), sbeta(2, 2000, 0, 1), sbeta(2000, 50000, 0, 1)) {
+		s := smoothSpan(d, d.Lower, d.Upper, nil)
+		ks, ok := smoothKnots(d, d.Lower, d.Upper, s)
+		if !ok {
+			continue // drawn as the polyline
+		}
+		for i := 1; i < len(ks); i++ {
+			if ks[i].cdf < ks[i-1].cdf {
+				t.Errorf("%v on its whole range: the CDF falls from %v at %v to %v at %v", d.Beta, ks[i-1].cdf, ks[i-1].u, ks[i].cdf, ks[i].u)
+			}
+		}
+	}
 }
 
 // TestCumulateEvaluatesWhereTheSumsMiss: between anchors too far apart for
