@@ -76,7 +76,9 @@ const fitAgreement = 1e-6
 // by 6e-5 at its median: SciPy 1.10.1's beta.cdf and beta.ppf, a one-off
 // check, no committed table). No record of an earlier build with a prior
 // from the pool has been found that needs it; it is a bound, not a
-// measured need.
+// measured need: the builds that name a prior's pooled revisions formed
+// the demo's pool priors within 5e-15 of this version's single Beta
+// (testdata/records/demo_*_pool.json, TestPoolPriorsOfEarlierBuildsImport).
 const curveAgreement = 1e-5
 
 // sseAgreement is how much larger, relatively, the least-squares objective
