@@ -104,7 +104,10 @@ func TestADatabaseOfAnEarlierBuildUpgradesAndItsRecordImports(t *testing.T) {
 // build named the revisions it pooled (pooled_revisions, from 821dd3f),
 // the import formed their pool again and compared its single Beta
 // (record.RulePoolMismatch): a prior whose α was edited by 1e-3 is
-// refused, naming the prior.
+// refused, naming the prior. The builds before 9dcc36a (7c8c05c,
+// d36935e) wrote the current agreed_prior without its mean, sd and
+// percentiles, and the import refused their records at
+// agreed_prior.mean (record.Prior.Unsummarised).
 func TestPoolPriorsOfEarlierBuildsImport(t *testing.T) {
 	files, err := filepath.Glob("../../testdata/records/demo_*_pool.json")
 	check(t, err)

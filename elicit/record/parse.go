@@ -9,6 +9,7 @@ import (
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
 // MaxBytes is the largest record Parse reads.
@@ -99,7 +100,46 @@ func Decode(rd io.Reader) (Record, error) {
 	if _, err := dec.Token(); err != io.EOF {
 		return Record{}, inputErr("record", RuleJSON, "data after the record")
 	}
+	if err := markUnsummarised(b, &r); err != nil {
+		return Record{}, err
+	}
 	return r, nil
+}
+
+// markUnsummarised marks each agreed_prior of r that the document b
+// wrote without its summary (Prior.Unsummarised): with none of the keys
+// mean, sd and percentiles. One that has some of them keeps its missing
+// numbers as 0, which CheckCurrentPriors refuses. Only a prior whose
+// summary reads all 0 can be one, so a record that has every summary is
+// not read a second time.
+func markUnsummarised(b []byte, r *Record) error {
+	blank := false
+	for _, q := range r.Questions {
+		if p := q.AgreedPrior; p != nil && p.Mean == 0 && p.SD == 0 && p.Percentiles == (workshop.Percentiles{}) {
+			blank = true
+		}
+	}
+	if !blank {
+		return nil
+	}
+	var keys struct {
+		Questions []struct {
+			AgreedPrior map[string]json.RawMessage `json:"agreed_prior"`
+		} `json:"questions"`
+	}
+	if err := json.Unmarshal(b, &keys); err != nil {
+		return inputErr("record", RuleJSON, "%v", err)
+	}
+	for i, q := range keys.Questions {
+		if i >= len(r.Questions) || r.Questions[i].AgreedPrior == nil || q.AgreedPrior == nil {
+			continue
+		}
+		_, mean := q.AgreedPrior["mean"]
+		_, sd := q.AgreedPrior["sd"]
+		_, pc := q.AgreedPrior["percentiles"]
+		r.Questions[i].AgreedPrior.Unsummarised = !mean && !sd && !pc
+	}
+	return nil
 }
 
 // positiveZeros makes every −0 among v's numbers 0, as input.Number

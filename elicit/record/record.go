@@ -191,6 +191,11 @@ type Prior struct {
 	// weight, and a 5%, 50% or 95% point written as a bound with its
 	// value. A record written before they were kept has none.
 	Warnings []Warning `json:"warnings,omitempty"`
+	// Unsummarised is true for a prior read from a record written before
+	// agreed_prior carried its summary (builds before 9dcc36a,
+	// 2026-12-02), which has none of mean, sd and percentiles: its reader
+	// was given no summary to check (set by Decode).
+	Unsummarised bool `json:"-"`
 }
 
 // newPrior summarises an agreed prior for the record.

@@ -23,8 +23,8 @@ import (
 // workshop.MaxRounds and every other round at most the workshop's. Answers and consensus judgements are re-checked
 // by fitting them, and a revision's fit, like a consensus prior's Beta,
 // must match the fresh one (ValidateFits). A question's agreed_prior must be the last of its
-// prior_history, with its Beta's own mean, sd and percentiles
-// (RulePriorMismatch): it is the number the record's reader was given,
+// prior_history, with its Beta's own mean, sd and percentiles where it
+// has them (RulePriorMismatch; Prior.Unsummarised): it is the number the record's reader was given,
 // and an import keeps the history; its warnings, where it has them, must
 // carry its Beta's codes (their words are the writing version's). A prior from the pool that names the
 // revisions it pooled must be the single Beta of their pool under its
@@ -557,6 +557,11 @@ func checkCurrentPrior(p string, q Question) error {
 	}
 	d := cur.Dist
 	span := d.Upper - d.Lower
+	if cur.Unsummarised {
+		// Written before the record carried a prior's summary: no
+		// number was given beside the Beta, so none can be another's.
+		return nil
+	}
 	for _, c := range []struct {
 		name      string
 		got, want float64

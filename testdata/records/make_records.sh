@@ -15,7 +15,7 @@
 # demo_COMMIT_pool.json. Run from anywhere inside the repository; needs
 # Go, gcc (cgo) and curl.
 #   testdata/records/make_records.sh 2356720 7c8c05c 6f74401 868acb0 3718eac 7c8c05c:tiny \
-#     821dd3f:pool ff655a7:pool 3718eac:pool
+#     7c8c05c:pool d36935e:pool 821dd3f:pool ff655a7:pool 3718eac:pool
 set -eu
 repo=$(git rev-parse --show-toplevel)
 out="$repo/testdata/records"
