@@ -78,7 +78,9 @@ const fitAgreement = 1e-6
 // from the pool has been found that needs it; it is a bound, not a
 // measured need: the builds that name a prior's pooled revisions formed
 // the demo's pool priors within 5e-15 of this version's single Beta
-// (testdata/records/demo_*_pool.json, TestPoolPriorsOfEarlierBuildsImport).
+// (testdata/records/demo_*_pool.json, TestPoolPriorsOfEarlierBuildsImport)
+// and 600 invented pools' within 2e-12 (testdata/records/earlier_pools,
+// TestPoolsOfEarlierBuildsAreTaken).
 const curveAgreement = 1e-5
 
 // sseAgreement is how much larger, relatively, the least-squares objective
