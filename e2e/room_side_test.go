@@ -4,6 +4,7 @@ import (
 	"fmt"
 	"net/http"
 	"testing"
+	"time"
 )
 
 // convergedPanel is an invented panel of n experts after Delphi rounds:
@@ -68,9 +69,16 @@ func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
 				fits(t, fac, screen, w)
 				continue
 			}
+			// Measured once the layout has settled: the fonts loaded and
+			// room.js's placing done again after them. Under load in CI the
+			// 30 experts' strip at 1280×720 was once read at 11.2 px,
+			// which that page at that size never showed again.
+			if err := fac.poll(stepTimeout, `document.fonts.status === "loaded"`); err != nil {
+				t.Fatal(err)
+			}
 			sideEnds(t, fac, screen)
 			fitsScreen(t, fac, int(w), int(h))
-			got := eval[sideShown](fac, "the side column", `(() => {
+			measure := `(() => {
 				const side = document.querySelector(".room-side"), sb = side.getBoundingClientRect();
 				const foot = Math.min(sb.bottom, window.innerHeight);
 				const inside = e => { const r = e.getBoundingClientRect(); return r.height > 0 && r.top >= sb.top - 1 && r.bottom <= foot + 1; };
@@ -81,7 +89,14 @@ func TestRoomSideKeepsWhatTheRoomMustSee(t *testing.T) {
 				return {table: shown(".chart-table"), away: shown(".room-table-away"), link: !!link, linkIn: !!link && inside(link), legendIn: inside(svg.querySelector(".strip-legend")),
 					dots: svg.querySelectorAll(".median-dot").length, labels: labels,
 					font: Math.min(...Array.from(svg.querySelectorAll(".median-label")).map(e => parseFloat(getComputedStyle(e).fontSize) * svg.getScreenCTM().a))};
-			})()`)
+			})()`
+			got := eval[sideShown](fac, "the side column", measure)
+			if got.Font < 11.5 {
+				// Small letters seen early are measured again after a
+				// moment; only those that stay fail.
+				time.Sleep(500 * time.Millisecond)
+				got = eval[sideShown](fac, "the side column", measure)
+			}
 			if !got.Link || !got.LinkIn {
 				t.Errorf("%s: the reasons (or the link to them) are not on the screen in the side column", screen)
 			}
