@@ -350,15 +350,23 @@ func (d Beta) curveFunc(withCDF bool) func(u float64) (cdf, pdf, slope float64) 
 		v := 1 - u
 		lo, f := math.NaN(), 0.0
 		var k float64
-		if withCDF {
+		switch {
+		case withCDF:
 			lo, _, k = c.tailsK(u, v)
+		case c.form != formStirling:
+			// The density alone, in logs: lnPower's sum with the
+			// exponents lowered by one, two logarithms where density
+			// takes four (where the shapes are large, lnPower's
+			// Stirling form keeps the digits, below).
+			f = math.Exp(a1*logX(u, v) + b1*logX(v, u) + c.c0)
 		}
-		if k > 0 && !math.IsInf(k, 0) {
+		switch {
+		case k > 0 && !math.IsInf(k, 0):
 			f = k / u / v
-		} else {
-			// Without the CDF's power term, or where it under- or
-			// overflows while the density need not (u or 1 − u
-			// subnormal): the density in logs.
+		case withCDF || c.form == formStirling:
+			// Where the CDF's power term under- or overflows while the
+			// density need not (u or 1 − u subnormal), or with large
+			// shapes: the density in logs.
 			f = c.density(u, v)
 		}
 		slope := 0.0
