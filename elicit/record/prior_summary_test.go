@@ -62,6 +62,17 @@ func TestAPriorWrittenWithoutItsSummaryReads(t *testing.T) {
 	if !errors.As(err, &ie) || ie.Field != "questions[0].agreed_prior.mean" || ie.Rule != RulePriorMismatch {
 		t.Errorf("a summary of 0s: Parse = %v, want questions[0].agreed_prior.mean: %s", err, RulePriorMismatch)
 	}
+	// Without its summary a prior's warnings, where it gives any, are
+	// still its Beta's own: made-up ones are refused.
+	madeUp := built
+	cur = *built.Questions[0].AgreedPrior
+	cur.Warnings = []Warning{{Code: "made-up-code", Message: "invented"}}
+	madeUp.Questions = slices.Clone(built.Questions)
+	madeUp.Questions[0].AgreedPrior = &cur
+	_, err = Parse(bytes.NewReader(withoutKeys(t, madeUp, "mean", "sd", "percentiles")))
+	if !errors.As(err, &ie) || ie.Field != "questions[0].agreed_prior.warnings" || ie.Rule != RulePriorMismatch {
+		t.Errorf("made-up warnings without a summary: Parse = %v, want questions[0].agreed_prior.warnings: %s", err, RulePriorMismatch)
+	}
 	for _, c := range []struct {
 		name  string
 		keys  []string

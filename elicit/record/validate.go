@@ -559,11 +559,9 @@ func checkCurrentPrior(p string, q Question) error {
 	}
 	d := cur.Dist
 	span := d.Upper - d.Lower
-	if cur.Unsummarised {
-		// Written before the record carried a prior's summary: no
-		// number was given beside the Beta, so none can be another's.
-		return nil
-	}
+	// A prior written before the record carried its summary gave no
+	// number beside the Beta, so none can be another's; its warnings,
+	// if it has any, are checked below all the same.
 	for _, c := range []struct {
 		name      string
 		got, want float64
@@ -573,6 +571,9 @@ func checkCurrentPrior(p string, q Question) error {
 		{"percentiles.p50", cur.Percentiles.P50, d.Quantile(0.5)},
 		{"percentiles.p95", cur.Percentiles.P95, d.Quantile(0.95)},
 	} {
+		if cur.Unsummarised {
+			break
+		}
 		if !(math.Abs(c.got-c.want) <= summaryAgreement*math.Abs(c.want)+1e-12*span) {
 			return inputErr(p+"."+c.name, RulePriorMismatch, "%v, but Beta(%g, %g) on [%g, %g] has %v", c.got, d.Alpha, d.Beta.Beta, d.Lower, d.Upper, c.want)
 		}
