@@ -6,6 +6,7 @@ import (
 	"errors"
 	"fmt"
 	"io"
+	"log/slog"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -84,6 +85,9 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 		return fail(stderr, "import-answers", notADatabase(*dbPath, err))
 	}
 	defer db.Close()
+	// The store's warning of a workshop stamped ahead of this clock, in
+	// the form parley serve writes it.
+	db.SetLogger(slog.New(slog.NewTextHandler(stderr, nil)))
 	ctx := context.Background()
 	ws, err := db.Workshop(ctx, wid)
 	if err != nil {

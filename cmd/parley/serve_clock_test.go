@@ -6,6 +6,7 @@ import (
 	"net/url"
 	"path/filepath"
 	"regexp"
+	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -64,5 +65,39 @@ func TestServeWarnsOfStampsAheadOfTheClock(t *testing.T) {
 	// Two hours less the time from the move to the first save.
 	if !regexp.MustCompile(`ahead=(2h0m0s|1h59m\d+s)`).MatchString(log) {
 		t.Errorf("the warning does not say it is two hours ahead:\n%s", log)
+	}
+}
+
+// parley import-answers stamps what it saves as the server does, so a
+// workshop whose latest fact lies two hours ahead of the clock is warned
+// of on its stderr in the same form as parley serve's, where it went to
+// the log package's default in another form.
+func TestImportAnswersWarnsOfStampsAheadOfTheClock(t *testing.T) {
+	path, ws, _ := cliWorkshop(t)
+	sheet := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.35,0.5\n")
+	// A save first, so that the workshop keeps its latest time.
+	w := strconv.FormatInt(ws, 10)
+	if code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", sheet); code != 0 {
+		t.Fatalf("import: %d %s", code, errOut)
+	}
+	raw, err := sql.Open("sqlite3", "file:"+path+"?_busy_timeout=5000")
+	check(t, err)
+	defer raw.Close()
+	ahead := time.Now().UTC().Add(2 * time.Hour).Format(time.RFC3339Nano)
+	res, err := raw.Exec(`UPDATE fact_clock SET last = ? WHERE workshop_id = ?`, ahead, ws)
+	check(t, err)
+	if n, _ := res.RowsAffected(); n != 1 {
+		t.Fatalf("the workshop has no kept latest time (%d rows)", n)
+	}
+	again := writeSheet(t, "expert,question,q05,q50,q95\nJomo,2,0.2,0.36,0.5\n")
+	code, _, errOut := run("import-answers", "--db", path, "--workshop", w, "--in", again)
+	if code != 0 {
+		t.Fatalf("import: %d %s", code, errOut)
+	}
+	if n := strings.Count(errOut, "level=WARN msg=\"store: a workshop's latest fact is dated after this machine's clock"); n != 1 {
+		t.Fatalf("%d warnings in the form serve writes, want 1:\n%s", n, errOut)
+	}
+	if !strings.Contains(errOut, "latest_fact="+ahead) {
+		t.Errorf("the warning does not name the latest fact's time:\n%s", errOut)
 	}
 }

@@ -12,11 +12,12 @@ import (
 // everywhere, with one interior maximum at the mode (α−1)/(α+β−2). Most
 // experts' fits are of this kind. Such a curve is drawn as cubic Bézier
 // pieces through a few knots instead of as a polyline through
-// gridPoints+1 samples: at each knot the density's and the CDF's values
-// and slopes are known exactly (the CDF's slope is the density, the
-// density's comes from its log-derivative, elicit.Beta.CurveFunc, on the
-// unit scale so that no bounds' width puts them out of range), so each
-// piece is the cubic Hermite interpolant, whose error between two knots h
+// gridPoints+1 samples: at each knot the density's value and slope are
+// known exactly (the slope from the density's log-derivative,
+// elicit.Beta.DensitySlopeFunc, on the unit scale so that no bounds'
+// width puts them out of range), the CDF's slope is the density, and the
+// CDF itself is summed from the density to well within the tolerance
+// (cumulate, below), so each piece is the cubic Hermite interpolant, whose error between two knots h
 // apart is at most h⁴/384·max|f⁗| (Burden & Faires, "Numerical
 // Analysis", Theorem 3.13). Knots are placed adaptively, starting on the
 // curve's own window so that a narrow expert in a wide panel is resolved:
