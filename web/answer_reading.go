@@ -576,5 +576,5 @@ func unitSlip(q workshop.Question, f *Form, a workshop.Answer, sp speaker) strin
 	return sp.pick("You chose percentages, so ", "The form is set to percentages, so ") + typed + " is read as " + typed + "%. " +
 		sp.pick("If you meant", "If %s meant") + " proportions, " + typed + " is " + chart.FormatPercent(values[largest]*100) +
 		": choose “As proportions” above, or type every value as a percentage with its % sign, such as " + chart.FormatPercent(values[largest]*100) + ". " +
-		sp.pick("If you do mean ", "If %s does mean ") + typed + "%, type each value with its % sign (" + typed + "%) and this note goes away."
+		sp.pick("If you do mean ", "If %s does mean ") + typed + "%, add a % sign to each value (" + typed + "%) and this note goes away."
 }

@@ -763,7 +763,7 @@ func roomPage(v roomView) templ.Component {
 			}
 		}
 		if v.ShowReasons {
-			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 78, "<span class=\"room-keys muted\">Keys: ← and → (or Page Up and Page Down) turn the pages, then the next question.</span> ")
+			templ_7745c5c3_Err = templruntime.WriteString(templ_7745c5c3_Buffer, 78, "<span class=\"room-keys muted\">Keys: ← and → (or Page Up and Page Down) turn the pages, then go on to the next question.</span> ")
 			if templ_7745c5c3_Err != nil {
 				return templ_7745c5c3_Err
 			}

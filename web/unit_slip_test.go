@@ -17,7 +17,7 @@ import (
 func TestProportionsTypedAsPercentagesAreCalledOut(t *testing.T) {
 	h, ws, qs, es, links := seeded(t)
 	qp := links[2].Path + "q/" + strconv.FormatInt(qs[0].ID, 10)
-	const warning = "You chose percentages, so 0.08 is read as 0.08%. If you meant proportions, 0.08 is 8%: choose “As proportions” above, or type every value as a percentage with its % sign, such as 8%. If you do mean 0.08%, type each value with its % sign (0.08%) and this note goes away."
+	const warning = "You chose percentages, so 0.08 is read as 0.08%. If you meant proportions, 0.08 is 8%: choose “As proportions” above, or type every value as a percentage with its % sign, such as 8%. If you do mean 0.08%, add a % sign to each value (0.08%) and this note goes away."
 	for _, c := range []struct {
 		unit   string
 		values []string
@@ -52,7 +52,7 @@ func TestProportionsTypedAsPercentagesAreCalledOut(t *testing.T) {
 	// The facilitator entering an expert's judgement meets it too.
 	entry := questionPath(ws.ID, qs[0].ID) + "/enter/" + strconv.FormatInt(es[2].ID, 10) + "/preview?fragment=1"
 	r, body := h.post(entry, url.Values{"unit": {"percent"}, "values[0]": {"0.02"}, "values[1]": {"0.04"}, "values[2]": {"0.08"}})
-	if want := "The form is set to percentages, so 0.08 is read as 0.08%. If " + es[2].Name + " meant proportions, 0.08 is 8%: choose “As proportions” above, or type every value as a percentage with its % sign, such as 8%. If " + es[2].Name + " does mean 0.08%, type each value with its % sign (0.08%) and this note goes away."; r.StatusCode != http.StatusOK || !strings.Contains(body, want) {
+	if want := "The form is set to percentages, so 0.08 is read as 0.08%. If " + es[2].Name + " meant proportions, 0.08 is 8%: choose “As proportions” above, or type every value as a percentage with its % sign, such as 8%. If " + es[2].Name + " does mean 0.08%, add a % sign to each value (0.08%) and this note goes away."; r.StatusCode != http.StatusOK || !strings.Contains(body, want) {
 		t.Errorf("the facilitator's entry: %d, want %q in %.2000s", r.StatusCode, want, body)
 	}
 }
