@@ -660,10 +660,9 @@ func TestRoomSideWaitsForItsPlace(t *testing.T) {
 	fac.viewport(1920, 1080, false)
 	// Seen: laid out with a box, and not hidden by visibility.
 	const seen = `(sel => { const e = document.querySelector(sel); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility === "visible"; })`
-	const styled = `Array.from(document.querySelectorAll('link[rel="stylesheet"]')).every(l => l.sheet !== null)`
 	fac.openHoldingScript(room, "room.js", func() {
-		if err := fac.poll(stepTimeout, styled); err != nil {
-			t.Fatalf("the stylesheets: %v", err)
+		if err := fac.poll(stepTimeout, parsedAndStyled); err != nil {
+			t.Fatalf("the page and its stylesheets: %v", err)
 		}
 		if !eval[bool](fac, "the page before room.js", `document.querySelector(".room-side").getAttribute("data-beside") === "link"`) {
 			t.Fatal("the server did not choose the link: the test's reasons do not stand for what the room's smallest projector cannot hold")
@@ -705,6 +704,12 @@ func TestRoomSideWaitsForItsPlace(t *testing.T) {
 	shots.take(bare, "room-side-noscript-reasons-1920")
 }
 
+// parsedAndStyled holds once a page whose deferred script is held back
+// has been read to its end (the script is asked for from the head, before
+// the body is read: under load the side column was not there yet) and
+// its stylesheets are in.
+const parsedAndStyled = `document.readyState !== "loading" && Array.from(document.querySelectorAll('link[rel="stylesheet"]')).every(l => l.sheet !== null)`
+
 // TestRoomSideWithoutReasonsShowsAtOnce: a panel that gave no reasons
 // has a side column with no data-beside, no list and no link. It is seen
 // at once, room.js held back or not (room.css waits only for a side that
@@ -720,6 +725,9 @@ func TestRoomSideWithoutReasonsShowsAtOnce(t *testing.T) {
 	const bare = `(() => { const s = document.querySelector(".room-side"); return !!s && !s.hasAttribute("data-beside") && !s.hasAttribute("data-placed") && !s.querySelector(".room-reasons-more, .room-reasons-beside"); })()`
 	fac.viewport(1920, 1080, false)
 	fac.openHoldingScript(room, "room.js", func() {
+		if err := fac.poll(stepTimeout, parsedAndStyled); err != nil {
+			t.Fatalf("the page and its stylesheets: %v", err)
+		}
 		if !eval[bool](fac, "the side before room.js", bare) {
 			t.Fatal("the side of a panel that gave no reasons carries data-beside, or something of the reasons")
 		}
