@@ -127,9 +127,10 @@ func (p *person) openHoldingLiveScript(address string, meanwhile func()) {
 	p.openHoldingScript(address, "live.js", meanwhile, false)
 }
 
-// openHoldingScript opens address with /static/{script} held back until
-// meanwhile has run, then lets it load, or fails its request (fail): the
-// page as it stands before its script runs, or without it.
+// openHoldingScript opens address with /static/{script} (a deferred
+// script) held back until meanwhile has run, then lets it load, or fails
+// its request (fail): the page as it stands, read to its end, before its
+// script runs, or without it.
 func (p *person) openHoldingScript(address, script string, meanwhile func(), fail bool) {
 	p.t.Helper()
 	ctx, cancel := context.WithCancel(p.ctx)
@@ -158,6 +159,10 @@ func (p *person) openHoldingScript(address, script string, meanwhile func(), fai
 	case <-time.After(stepTimeout):
 		p.t.Fatalf("%s: %s was never requested", p.name, script)
 	}
+	// The page's scripts are deferred and asked for from its head, before
+	// its body is read: meanwhile sees the page read to its end (a room
+	// test read the side column before it was there, under load in CI).
+	p.waitFor("the page read to its end", `document.readyState !== "loading"`)
 	meanwhile()
 	p.do("let "+script+" load or fail", chromedp.Func(func(ctx context.Context, t *chromedp.Target) error {
 		var err error
