@@ -101,6 +101,27 @@ func facilitatorOnDemo(t *testing.T) (*site, demo, *person) {
 	return s, d, signedInFacilitator(t, s)
 }
 
+// demoRoomAfterRoundOne is facilitatorOnDemo with the demo's round 1
+// closed through the overview's form, and the address of question 1's
+// room view, which then shows the panel as round 1 closed.
+func demoRoomAfterRoundOne(t *testing.T) (*site, demo, *person, string) {
+	t.Helper()
+	s, d, fac := facilitatorOnDemo(t)
+	fac.open(d.url + "/")
+	fac.postFromPage(d.url+"/round", "action=close")
+	return s, d, fac, d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
+}
+
+// scriptsOff turns scripts off in p's tab: the page as a browser without
+// script shows it.
+func (p *person) scriptsOff() {
+	p.t.Helper()
+	p.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
+		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
+		return err
+	}))
+}
+
 // signedInFacilitator starts a headless browser and signs the facilitator
 // in to s, in a browser context of their own.
 func signedInFacilitator(t *testing.T, s *site) *person {

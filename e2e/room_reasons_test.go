@@ -10,8 +10,6 @@ import (
 	"testing"
 	"time"
 
-	"github.com/chromedp/cdproto/cdp"
-	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 
 	"github.com/parley-elicit/parley/elicit/input"
@@ -688,10 +686,7 @@ func TestRoomSideWaitsForItsPlace(t *testing.T) {
 
 	// Without script: the link at once, and it leads to the reasons.
 	bare := fac.tab("the projector's tab without script")
-	bare.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
-		return err
-	}))
+	bare.scriptsOff()
 	bare.viewport(1920, 1080, false)
 	bare.open(room)
 	if !eval[bool](bare, "the link without script", seen+`(".room-reasons-more")`) || eval[bool](bare, "the list without script", seen+`(".room-reasons-beside")`) {
@@ -716,11 +711,8 @@ const parsedAndStyled = `document.readyState !== "loading" && Array.from(documen
 // carries the list), and without script; room.js places nothing there.
 // Screenshots at the projector sizes and on a phone.
 func TestRoomSideWithoutReasonsShowsAtOnce(t *testing.T) {
-	_, d, fac := facilitatorOnDemo(t)
+	_, _, fac, room := demoRoomAfterRoundOne(t)
 	shots := newScreenshots(t)
-	fac.open(d.url + "/")
-	fac.postFromPage(d.url+"/round", "action=close")
-	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
 	const seen = `(sel => { const e = document.querySelector(sel); return !!e && e.getClientRects().length > 0 && getComputedStyle(e).visibility === "visible"; })`
 	const bare = `(() => { const s = document.querySelector(".room-side"); return !!s && !s.hasAttribute("data-beside") && !s.hasAttribute("data-placed") && !s.querySelector(".room-reasons-more, .room-reasons-beside"); })()`
 	fac.viewport(1920, 1080, false)
@@ -754,10 +746,7 @@ func TestRoomSideWithoutReasonsShowsAtOnce(t *testing.T) {
 	}
 	// Without script: the side at once.
 	nos := fac.tab("the projector's tab without script")
-	nos.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
-		return err
-	}))
+	nos.scriptsOff()
 	nos.viewport(1366, 768, false)
 	nos.open(room)
 	if !eval[bool](nos, "the side without script", seen+`(".room-side")`) {

@@ -2,7 +2,6 @@ package e2e
 
 import (
 	"fmt"
-	"strconv"
 	"testing"
 )
 
@@ -40,14 +39,8 @@ const readRoomSmallPrint = `(() => {
 // their 18 px (their size is the strip's own); and every state still fits
 // its screen without scrolling, the header's first line one line.
 func TestRoomSmallPrintReadsOnAProjector(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	_, _, fac, room := demoRoomAfterRoundOne(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.open(d.url + "/")
-	fac.postFromPage(d.url+"/round", "action=close")
-	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
 	for _, st := range []struct{ name, query string }{{"picture", ""}, {"prior", "?show=prior"}, {"reasons", "?show=reasons&page=1"}} {
 		for _, sz := range [][2]int64{{1024, 768}, {1366, 768}, {1920, 1080}} {
 			fac.viewport(sz[0], sz[1], false)

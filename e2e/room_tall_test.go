@@ -17,14 +17,8 @@ import (
 // under the notes at 1024×768 (on 16:9, a tenth of the screen's height,
 // as pictureFills asks).
 func TestRoomPictureFillsAFourByThreeProjector(t *testing.T) {
-	site, d := startDemo(t)
-	br := startBrowser(t)
+	_, _, fac, room := demoRoomAfterRoundOne(t)
 	shots := newScreenshots(t)
-	fac := br.person("facilitator")
-	signIn(t, site, fac)
-	fac.open(d.url + "/")
-	fac.postFromPage(d.url+"/round", "action=close")
-	room := d.url + "/q/" + strconv.FormatInt(d.qs[0].ID, 10) + "/room"
 	shown := `Array.from(document.querySelectorAll(".room-chart svg.chart-svg")).map((e, i) => e.getClientRects().length > 0 ? i : -1).filter(i => i >= 0)`
 	for _, sz := range []struct {
 		w, h int64

@@ -7,8 +7,6 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/chromedp/cdproto/cdp"
-	"github.com/chromedp/cdproto/emulation"
 	"github.com/chromedp/chromedp"
 	"github.com/chromedp/chromedp/kb"
 )
@@ -76,10 +74,7 @@ func TestShowTheFitStaysOnThePage(t *testing.T) {
 	}
 
 	// Without scripts the button posts the form and the page shows the fit.
-	carmen.do("turn scripts off", chromedp.Func(func(ctx context.Context, tg *chromedp.Target) error {
-		_, err := cdp.Call(ctx, tg, emulation.SetScriptExecutionDisabled, emulation.SetScriptExecutionDisabledParams{Value: true})
-		return err
-	}))
+	carmen.scriptsOff()
 	carmen.open(link + "q/" + strconv.FormatInt(g.qs[3].ID, 10))
 	typeValues(carmen, "2", "3", "7")
 	if st := carmen.load("Show the fit without scripts", chromedp.Click(chromedp.CSS(`form.answer-form button:not([formaction])`))); st != http.StatusOK {

@@ -185,10 +185,7 @@ func TestFingerprintCommand(t *testing.T) {
 // Bad input: exit 2 with the flag and the rule named, nothing else said.
 func TestFingerprintBadInput(t *testing.T) {
 	path, wid := closedRoundWorkshop(t)
-	file := filepath.Join(t.TempDir(), "record.json")
-	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
-		t.Fatalf("export: %s", errs)
-	}
+	file := exportedRecord(t, path, wid)
 	notJSON := filepath.Join(t.TempDir(), "notes.txt")
 	check(t, os.WriteFile(notJSON, []byte("3f2a 91c0 7be4 0d15\n"), 0o644))
 	emptyJSON := filepath.Join(t.TempDir(), "empty.json")
@@ -328,10 +325,7 @@ func TestFingerprintQuestionChangedWithoutAnEvent(t *testing.T) {
 // import refuses the file.
 func TestFingerprintAgreedPriorChanged(t *testing.T) {
 	path, wid := closedRoundWorkshop(t)
-	file := filepath.Join(t.TempDir(), "record.json")
-	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
-		t.Fatalf("export: %s", errs)
-	}
+	file := exportedRecord(t, path, wid)
 	doc, err := os.ReadFile(file)
 	check(t, err)
 	for _, c := range []struct {
@@ -462,10 +456,7 @@ func answerSavedAfter(t *testing.T, set string) {
 		Answer: workshop.Answer{Values: []float64{0.3, 0.5, 0.7}}}
 	check(t, db.SaveRevision(ctx, &r))
 	check(t, db.Close())
-	file := filepath.Join(t.TempDir(), "record.json")
-	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
-		t.Fatalf("export: %s", errs)
-	}
+	file := exportedRecord(t, path, wid)
 	if code, _, errs := run("fingerprint", "--in", file); code != exitFailure || !strings.Contains(errs, ".round: "+string(record.RuleSavedInItsRound)) {
 		t.Errorf("%s: fingerprint: exit %d, %q", set, code, errs)
 	}

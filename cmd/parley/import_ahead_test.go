@@ -5,7 +5,6 @@ import (
 	"encoding/json"
 	"os"
 	"path/filepath"
-	"strconv"
 	"strings"
 	"testing"
 	"time"
@@ -20,10 +19,7 @@ import (
 // workshop's next stamps after them until the clock caught up.
 func TestImportRefusesARecordDatedAheadOfTheClock(t *testing.T) {
 	path, wid, _ := cliWorkshop(t)
-	file := filepath.Join(t.TempDir(), "record.json")
-	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
-		t.Fatalf("export: %s", errs)
-	}
+	file := exportedRecord(t, path, wid)
 	b, err := os.ReadFile(file)
 	check(t, err)
 	var doc map[string]any

@@ -63,6 +63,17 @@ func cliWorkshop(t *testing.T) (path string, workshopID, questionID int64) {
 	return path, w.ID, qs[0].ID
 }
 
+// exportedRecord exports workshop wid of the database at path with
+// parley export, as JSON, to a new file, and returns the file's path.
+func exportedRecord(t *testing.T, path string, wid int64) string {
+	t.Helper()
+	file := filepath.Join(t.TempDir(), "record.json")
+	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
+		t.Fatalf("export: %s", errs)
+	}
+	return file
+}
+
 func check(t *testing.T, err error) {
 	t.Helper()
 	if err != nil {
@@ -415,10 +426,7 @@ func TestImportCommand(t *testing.T) {
 // to an existing one.
 func TestImportRefusesWithThePathAndWritesNothing(t *testing.T) {
 	path, wid, _ := cliWorkshop(t)
-	file := filepath.Join(t.TempDir(), "record.json")
-	if code, _, errs := run("export", "--db", path, "--workshop", strconv.FormatInt(wid, 10), "--out", file); code != exitOK {
-		t.Fatalf("export: %s", errs)
-	}
+	file := exportedRecord(t, path, wid)
 	b, err := os.ReadFile(file)
 	check(t, err)
 	good := string(b)
