@@ -85,9 +85,12 @@ func runServe(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 // serve runs the server until ctx ends, then shuts down gracefully: stop
 // accepting, let in-flight requests finish (up to 15 s), close the DB.
 func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
-	host, _, err := net.SplitHostPort(c.addr)
+	host, port, err := net.SplitHostPort(c.addr)
 	if err != nil {
 		return badInput("addr", "%v", err)
+	}
+	if _, err := net.LookupPort("tcp", port); err != nil {
+		return badInput("addr", "the port must be a number from 0 to 65535 (0: any free port), got %q", port)
 	}
 	baseURL, err := checkBaseURL(c.baseURL)
 	if err != nil {
@@ -109,6 +112,19 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("db", "%v", err)
 	}
+	// The address is bound before the database is opened, so that an
+	// address this machine cannot listen on (a host it does not have, a
+	// port in use) leaves no new database behind, and before a new secret
+	// is issued: a port in use had stopped the server after it issued a
+	// secret it never printed, and the next start said that "the sign-in
+	// address printed earlier is still unused". Nothing is served until
+	// the secret exists (hs.Serve, below), so a non-loopback address is
+	// never served without one.
+	ln, err := net.Listen(listenNetwork(host), c.addr)
+	if err != nil {
+		return fmt.Errorf("--addr %s: %w (give another host:port with --addr)", c.addr, err)
+	}
+	defer ln.Close() // closed by the server's shutdown once served
 	if fi, err := os.Stat(dbPath); err == nil && fi.IsDir() {
 		return badInput("db", "%s is a folder; name the database file in it (a new one is created)", c.db)
 	}
@@ -148,23 +164,11 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		fmt.Fprintf(stdout, "parley: kept the fits of %d earlier revisions\n", n)
 	}
 
-	// The address is bound before a new secret is issued: a port in use
-	// (another program on 8080) stopped the server after it had issued a
-	// secret it never printed, and the next start said that "the sign-in
-	// address printed earlier is still unused". Nothing is served until
-	// the secret exists (hs.Serve, below), so a non-loopback address is
-	// never served without one.
-	ln, err := net.Listen(listenNetwork(host), c.addr)
-	if err != nil {
-		return fmt.Errorf("--addr %s: %w (give another host:port with --addr)", c.addr, err)
-	}
 	secret, err := web.EnsureFacilitatorSecret(ctx, db)
 	if err != nil {
-		ln.Close()
 		return err
 	}
 	if h, err := db.FacilitatorHash(ctx); err != nil || len(h) == 0 {
-		ln.Close()
 		return fmt.Errorf("no facilitator secret is set, so Parley will not serve (%v)", err)
 	}
 	scheme := "http"
@@ -191,13 +195,11 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 		PageBurst:     c.pageBurst,
 	})
 	if err != nil {
-		ln.Close()
 		return err
 	}
 	if !c.noDemo {
 		links, err := web.SeedDemo(ctx, db)
 		if err != nil {
-			ln.Close()
 			return err
 		}
 		if links != nil {
@@ -305,8 +307,10 @@ func checkBaseURL(raw string) (string, error) {
 		strings.Trim(u.Path, "/") != "" || u.RawQuery != "" || u.Fragment != "" || u.ForceQuery || strings.HasSuffix(raw, "#") {
 		return "", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", raw)
 	}
-	if _, err := strconv.Atoi(u.Port()); u.Port() != "" && err != nil {
-		return "", badInput("base-url", "must be http:// or https:// with a host and port and nothing after them, got %q", raw)
+	// The port may be left out (the scheme's own, as behind a proxy); one
+	// given must be one a browser can reach.
+	if n, err := strconv.Atoi(u.Port()); u.Port() != "" && (err != nil || n < 1 || n > 65535) {
+		return "", badInput("base-url", "the port must be a number from 1 to 65535, got %q in %q", u.Port(), raw)
 	}
 	return u.Scheme + "://" + u.Host, nil
 }

@@ -215,9 +215,18 @@ func TestServeWarnsOffLoopback(t *testing.T) {
 }
 
 func TestServeFlags(t *testing.T) {
+	dir := t.TempDir()
+	dbPath := filepath.Join(dir, "parley.db")
 	for _, args := range [][]string{
 		{"--tls-cert", "c.pem"},
 		{"--addr", "no-port"},
+		// A port that is no port is bad input, refused before the
+		// database is opened; it exited 1 from the listen and left a new
+		// database behind.
+		{"--addr", "127.0.0.1:99999"},
+		{"--addr", "127.0.0.1:-1"},
+		{"--addr", ":abc"},
+		{"--addr", "[::1]:65536"},
 		{"--bogus"},
 		{"extra"},
 		{"--expert-save-burst", "0"},
@@ -228,9 +237,15 @@ func TestServeFlags(t *testing.T) {
 		{"--expert-page-burst", "lots"},
 	} {
 		var out, errOut bytes.Buffer
-		if code := runServe(args, nil, &out, &errOut); code != exitBadInput {
+		if code := runServe(append([]string{"--db", dbPath, "--no-demo"}, args...), nil, &out, &errOut); code != exitBadInput {
 			t.Errorf("serve %v: exit %d, want %d (%s)", args, code, exitBadInput, errOut.String())
 		}
+		if args[0] == "--addr" && !strings.Contains(errOut.String(), "--addr") {
+			t.Errorf("serve %v: the refusal names no --addr: %s", args, errOut.String())
+		}
+	}
+	if entries, _ := os.ReadDir(dir); len(entries) != 0 {
+		t.Errorf("refused starts left %v behind", entries)
 	}
 }
 
@@ -360,7 +375,8 @@ func TestServeBaseURLWithClosingSlash(t *testing.T) {
 // facilitator-reset checks it, before anything is opened; "nonsense"
 // printed the sign-in address as nonsense/signin#….
 func TestServeRefusesABadBaseURL(t *testing.T) {
-	for _, bad := range []string{"nonsense", "192.0.2.1:8080", "ftp://192.0.2.1:21", "http://192.0.2.1:8080/parley", "http://192.0.2.1:8080/?x=1"} {
+	for _, bad := range []string{"nonsense", "192.0.2.1:8080", "ftp://192.0.2.1:21", "http://192.0.2.1:8080/parley", "http://192.0.2.1:8080/?x=1",
+		"http://192.0.2.1:99999", "http://192.0.2.1:0"} {
 		dbPath := filepath.Join(t.TempDir(), "p.db")
 		ctx, cancel := context.WithCancel(context.Background())
 		cancel() // a server that starts anyway stops at once
@@ -388,7 +404,7 @@ func TestFacilitatorResetChecksAddr(t *testing.T) {
 	defer db.Close()
 	ctx := context.Background()
 	check(t, db.SetFacilitatorHash(ctx, []byte("old hash")))
-	for _, bad := range []string{"", "8080", "foo bar:8080", "host:port", "127.0.0.1:"} {
+	for _, bad := range []string{"", "8080", "foo bar:8080", "host:port", "127.0.0.1:", "127.0.0.1:99999", "127.0.0.1:0"} {
 		var out, errOut bytes.Buffer
 		if code := runFacilitatorReset([]string{"--db", dbPath, "--addr", bad}, nil, &out, &errOut); code != exitBadInput || !strings.Contains(errOut.String(), "--addr") || out.Len() != 0 {
 			t.Errorf("--addr %q: exit %d, %q %q; want 2 naming --addr and nothing printed", bad, code, errOut.String(), out.String())
@@ -426,6 +442,11 @@ func TestServeOnAPortInUseIssuesNoSecret(t *testing.T) {
 	}
 	if strings.Contains(out.String(), "sign-in") {
 		t.Errorf("a start that did not bind spoke of a sign-in address:\n%s", out.String())
+	}
+	// Nor does it leave a new database behind: the address is bound
+	// before the database is opened.
+	if _, err := os.Stat(dbPath); !os.IsNotExist(err) {
+		t.Errorf("a start that did not bind left %s behind (%v)", dbPath, err)
 	}
 	_, out2, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath, noDemo: true})
 	if err := stop(); err != nil {
@@ -578,5 +599,26 @@ func TestServeFoldsItsJournalIntoTheFile(t *testing.T) {
 	}
 	if err := stop(); err != nil {
 		t.Fatal(err)
+	}
+}
+
+// TestBaseURLMayLeaveOutItsPort: behind a proxy the server is reached at
+// the scheme's own port, so --base-url may leave the port out (README);
+// a port given must be one a browser can reach.
+func TestBaseURLMayLeaveOutItsPort(t *testing.T) {
+	for raw, want := range map[string]string{
+		"https://parley.example.org":  "https://parley.example.org",
+		"https://parley.example.org/": "https://parley.example.org",
+		"http://192.0.2.1:65535":      "http://192.0.2.1:65535",
+	} {
+		got, err := checkBaseURL(raw)
+		if err != nil || got != want {
+			t.Errorf("checkBaseURL(%q) = %q, %v; want %q", raw, got, err, want)
+		}
+	}
+	for _, bad := range []string{"http://192.0.2.1:65536", "http://192.0.2.1:0", "https://[::1]:99999"} {
+		if _, err := checkBaseURL(bad); err == nil || !strings.Contains(err.Error(), "port must be a number from 1 to 65535") {
+			t.Errorf("checkBaseURL(%q): %v; want the port's rule", bad, err)
+		}
 	}
 }
