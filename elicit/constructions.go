@@ -210,10 +210,7 @@ func FourValue(lowest, highest, best, confidence, lower, upper float64) (Judgeme
 	if err := checkCentral("confidence", confidence); err != nil {
 		return Judgement{}, err
 	}
-	pl, ph := centralTails(confidence)
-	if !(pl < 0.5 && ph > 0.5 && ph < 1) {
-		return Judgement{}, inputErr("confidence", RuleProbOpen, "%v is too close to 0 or 1 to give distinct tail probabilities", confidence)
-	}
+	pl, ph := centralTails(confidence) // apart from 0.5, 0 and 1 by checkCentral
 	j := Judgement{Probs: []float64{pl, 0.5, ph}, Values: []float64{lowest, best, highest}, Lower: lower, Upper: upper}
 	if err := j.Validate(); err != nil {
 		return j, fourValueError(err)

@@ -223,7 +223,7 @@ func TestFourValue(t *testing.T) {
 		{0.1, 0.3, 0.2, 0, 0, 1, "confidence", RuleProbOpen},
 		{0.1, 0.3, 0.2, 1, 0, 1, "confidence", RuleProbOpen},
 		{0.1, 0.3, 0.2, 80, 0, 1, "confidence", RuleProbOpen},
-		{0.1, 0.3, 0.2, 1e-17, 0, 1, "confidence", RuleProbOpen},
+		{0.1, 0.3, 0.2, 1e-17, 0, 1, "confidence", RuleCentralNarrow},
 	}
 	for _, c := range bad {
 		_, err := FourValue(c.lowest, c.highest, c.best, c.conf, c.lo, c.hi)

@@ -32,6 +32,7 @@ const (
 	RuleValuesTooClose    Rule = "is too close to the value before it to be told apart (they must differ by at least a millionth of their distance to the nearer bound)"
 	RuleProbRange         Rule = "must lie between 1e-12 and 1 − 1e-12"
 	RuleCentralTails      Rule = "must leave at least 1e-12 outside the interval on each side: at most 1 − 2e-12"
+	RuleCentralNarrow     Rule = "must be at least 1e-12, the least probability Parley works with"
 	RuleBoundsRange       Rule = "must lie between -1e300 and 1e300"
 	RuleBoundsWidth       Rule = "upper must exceed lower by at least 1e-12 of their size"
 	RulePosteriorRange    Rule = "the posterior's alpha and beta must not exceed 1e+07 (the accuracy envelope)"

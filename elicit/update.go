@@ -71,9 +71,18 @@ func checkLevel(level float64) error { return checkCentral("level", level) }
 // says (centralTails).
 const MaxCentral = 1 - 2*MinProb
 
+// MinCentral is the smallest coverage of a central interval, MinProb =
+// 1e-12, the least probability of the accuracy envelope, as it is the
+// least a success criterion's confidence may be. Below it the interval
+// holds next to no chance and its ends are the median in all but name: a
+// moment match's z = Φ⁻¹((1 + c)/2) rounded to 0 and its sd to +Inf,
+// which was reported as an infinite interval. (A highest-density
+// interval at 1e-12 still holds its mode, TestHDIAtATinyLevelHoldsTheMode.)
+const MinCentral = MinProb
+
 // checkCentral checks the coverage of a central interval (a credible
 // level, an interval's coverage, a four-value confidence): finite,
-// strictly inside (0, 1), and at most MaxCentral. A comparison of the
+// strictly inside (0, 1), at least MinCentral and at most MaxCentral. A comparison of the
 // computed tail with MinProb refused MaxCentral itself, the largest
 // value the rule names.
 func checkCentral(field string, c float64) error {
@@ -85,6 +94,9 @@ func checkCentral(field string, c float64) error {
 	}
 	if c > MaxCentral {
 		return inputErr(field, RuleCentralTails, "each tail (1 - %s)/2 = %v is below %v", field, (1-c)/2, MinProb)
+	}
+	if c < MinCentral {
+		return inputErr(field, RuleCentralNarrow, "got %v", c)
 	}
 	return nil
 }

@@ -290,6 +290,8 @@ func expertWords(q workshop.Question, f *Form, err error, sp speaker) string {
 		}
 	case elicit.RuleCentralTails:
 		return "Must be at most " + workshop.ConfidenceMaxPercent + "%, which leaves a sliver of chance outside your range; you typed " + typed + "."
+	case elicit.RuleCentralNarrow:
+		return "Must be at least " + workshop.ConfidenceMinPercent + "%, or your range would hold no chance at all; you typed " + typed + "."
 	case elicit.RuleInteger, elicit.RuleCountRange, elicit.RuleNonNegative:
 		return "Type a whole number of chips, such as 3, or leave it empty for none."
 	case workshop.RuleChipsExceeded:

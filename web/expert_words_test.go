@@ -828,3 +828,41 @@ func TestChipsWarningsSayToMoveChips(t *testing.T) {
 		}
 	}
 }
+
+// The smallest confidence, 0.0000000001% (elicit.MinCentral), is not
+// refused for the confidence by the expert's form or the answer sheet;
+// below it both say what the least is. A confidence of 1e-13% had been
+// taken by the form as a range holding no chance at all.
+func TestTheSmallestConfidenceIsNamed(t *testing.T) {
+	g := newExpertRig(t)
+	form := func(c string) url.Values {
+		return url.Values{"lowest": {"0.02"}, "highest": {"0.6"}, "best": {"0.2"}, "confidence": {c}}
+	}
+	qs := []workshop.Question{g.qi}
+	es := []workshop.Expert{g.experts[0]}
+	sheet := func(c string) error {
+		_, err := answersheet.Read(strings.NewReader("expert,question,lowest,highest,best,confidence\nid:"+
+			strconv.FormatInt(g.experts[0].ID, 10)+",id:"+strconv.FormatInt(g.qi.ID, 10)+",0.02,0.6,0.2,"+c+"\n"), qs, es)
+		return err
+	}
+	var ie *elicit.InputError
+	// Typed below 1 without its sign, a confidence is read as a fraction
+	// typed by mistake ("Type the confidence as a percentage"); with its
+	// sign it is read as written.
+	for _, c := range []string{workshop.ConfidenceMinPercent + "%"} {
+		if _, body := g.post(g.qpath(0, g.qi)+"/preview", form(c)); shownError(body, "f-confidence") != "" {
+			t.Errorf("form, confidence %s: %q", c, shownError(body, "f-confidence"))
+		}
+		if err := sheet(c); errors.As(err, &ie) && strings.Contains(err.Error(), "confidence") {
+			t.Errorf("sheet, confidence %s: %v", c, err)
+		}
+	}
+	for _, under := range []string{"0.00000000009%", "1e-13%", "1e-300%"} {
+		if _, body := g.post(g.qpath(0, g.qi)+"/preview", form(under)); !strings.Contains(shownError(body, "f-confidence"), "Must be at least 0.0000000001%") {
+			t.Errorf("form, confidence %s: %q", under, shownError(body, "f-confidence"))
+		}
+		if err := sheet(under); !errors.As(err, &ie) || ie.Rule != elicit.RuleCentralNarrow || !strings.Contains(ie.Detail, "at least 0.0000000001") {
+			t.Errorf("sheet, confidence %s: %v", under, err)
+		}
+	}
+}

@@ -103,3 +103,21 @@ func TestQuickPriorsHintsSayAPercentSignIsTaken(t *testing.T) {
 		}
 	}
 }
+
+// A coverage too small to leave the interval's ends apart from its
+// middle is refused beside the coverage, by its rule. The moment match
+// had shown "sd +Inf: got +Inf" beside the interval's high end.
+func TestQuickPriorsRefuseACoverageOfNoChance(t *testing.T) {
+	h, ws, qs, _, _ := seeded(t)
+	for _, typed := range []string{"1e-300", "4.9e-324", "1e-13", "1e-11%"} {
+		v := url.Values{"question": {strconv.FormatInt(qs[0].ID, 10)}, "construction": {"interval"},
+			"c_low": {"0.03"}, "c_high": {"0.12"}, "c_coverage": {typed}}
+		res, body := h.get(quickPriorsPath(ws.ID) + "?" + v.Encode())
+		if res.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "c_coverage") || strings.Contains(body, `id="err-c_high"`) {
+			t.Errorf("coverage %q: %d, beside the coverage %v, beside the high end %v", typed, res.StatusCode, hasFieldError(body, "c_coverage"), strings.Contains(body, `id="err-c_high"`))
+		}
+		if !strings.Contains(body, string(elicit.RuleCentralNarrow)) || strings.Contains(body, "Inf") {
+			t.Errorf("coverage %q: the page does not give the rule, or shows an infinity", typed)
+		}
+	}
+}

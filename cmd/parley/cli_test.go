@@ -275,6 +275,9 @@ func TestScriptingBadInput(t *testing.T) {
 		{"a flag given twice", []string{"fit", "--probs", "0.05,0.5,0.95", "--values", "0.01,0.04,0.12", "--probs", "0.1,0.5,0.9"}, "", []string{"--probs", "given more than once"}},
 		{"a flag given twice, once with =", []string{"update", "--alpha=1", "--beta", "1", "--successes", "0", "--trials", "10", "-alpha", "2"}, "", []string{"--alpha", "given more than once"}},
 		{"prior coverage too close to 1", []string{"prior", "--interval", "0.03,0.12", "--coverage", "0.9999999999999999"}, "", []string{"coverage", string(elicit.RuleCentralTails)}},
+		// It said "interval: must be a finite number (… sd +Inf: got +Inf)".
+		{"prior coverage too close to 0", []string{"prior", "--interval", "0.03,0.12", "--coverage", "1e-300", "--method", "moments"}, "", []string{"coverage", string(elicit.RuleCentralNarrow)}},
+		{"update level too close to 0", []string{"update", "--alpha", "1", "--beta", "1", "--successes", "0", "--trials", "10", "--level", "1e-13"}, "", []string{"level", string(elicit.RuleCentralNarrow)}},
 		{"plan level too close to 1", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--length", "0.04", "--level", "0.9999999999999999"}, "", []string{"level", string(elicit.RuleCentralTails)}},
 		{"plan trials above the limit", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "1000001"}, "", []string{"trials", "1 to 1000000, got 1000001"}},
 		{"plan confidence subnormal", []string{"plan", "--alpha", "2", "--beta", "38", "--trials", "200", "--threshold", "0.08", "--direction", "below", "--confidence", "1e-320"}, "", []string{"confidence", string(elicit.RuleProbRange)}},

@@ -476,6 +476,9 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		if ie.Field == "confidence" && ie.Rule == elicit.RuleCentralTails {
 			return row, rowErr(line, "confidence", ie.Rule, "in percent, at most "+workshop.ConfidenceMaxPercent)
 		}
+		if ie.Field == "confidence" && ie.Rule == elicit.RuleCentralNarrow {
+			return row, rowErr(line, "confidence", ie.Rule, "in percent, at least "+workshop.ConfidenceMinPercent)
+		}
 		if ie.Field == "confidence" {
 			return row, rowErr(line, "confidence", elicit.RuleProbOpen, "in percent, strictly between 0 and 100")
 		}

@@ -27,6 +27,10 @@ const (
 // takes, in percent: elicit.MaxCentral, 1 − 2e-12 (elicit.RuleCentralTails).
 const ConfidenceMaxPercent = "99.9999999998"
 
+// ConfidenceMinPercent is the smallest, elicit.MinCentral, 1e-12
+// (elicit.RuleCentralNarrow).
+const ConfidenceMinPercent = "0.0000000001"
+
 // ParseAnswerNumber reads one value of an answer: a plain number, or for
 // a proportion question a percentage (5% → 0.05; a plain 5 too when
 // asPercent). typedPercent reports that it was read as a percentage.
