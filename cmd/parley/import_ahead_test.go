@@ -88,3 +88,33 @@ func TestImportRefusesARecordDatedAheadOfTheClock(t *testing.T) {
 		t.Fatalf("the record as exported: exit %d: %s", code, errs)
 	}
 }
+
+// An expert's created time dated ahead is refused as a fact is, by its
+// place in the record (the chain does not hash it, so the record is
+// otherwise sound).
+func TestImportRefusesAnExpertAddedAheadOfTheClock(t *testing.T) {
+	path, wid, _ := cliWorkshop(t)
+	b, err := os.ReadFile(exportedRecord(t, path, wid))
+	check(t, err)
+	var doc map[string]any
+	check(t, json.Unmarshal(b, &doc))
+	expert := doc["experts"].([]any)[0].(map[string]any)
+	created, err := time.Parse(time.RFC3339Nano, expert["created"].(string))
+	check(t, err)
+	expert["created"] = created.Add(72 * time.Hour).Format(time.RFC3339Nano)
+	b, err = json.Marshal(doc)
+	check(t, err)
+	forward := filepath.Join(t.TempDir(), "forward.json")
+	check(t, os.WriteFile(forward, b, 0o644))
+
+	code, out, errs := run("import", "--db", filepath.Join(t.TempDir(), "new.db"), "--in", forward)
+	if code != exitBadInput || out != "" {
+		t.Fatalf("a record with an expert added three days ahead: exit %d, stdout %q, stderr %q; want 2", code, out, errs)
+	}
+	for _, want := range []string{"parley import: bad input: experts[0].created: must not be dated more than 24 hours after this machine's clock",
+		"'s addition to the panel: dated ", "after this machine's clock, which reads "} {
+		if !strings.Contains(errs, want) {
+			t.Errorf("the refusal %q does not say %q", errs, want)
+		}
+	}
+}

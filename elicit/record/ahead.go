@@ -19,16 +19,27 @@ import (
 const MaxAhead = 24 * time.Hour
 
 // RuleAheadOfClock is broken by a record with a fact (or its workshop's
-// creation) dated more than MaxAhead after the importing machine's clock.
+// creation, an expert's addition or a true value's reveal) dated more
+// than MaxAhead after the importing machine's clock.
 const RuleAheadOfClock elicit.Rule = "must not be dated more than 24 hours after this machine's clock " +
 	"(the record was written by a machine whose clock was ahead, or this machine's clock is behind: set the wrong one right and import again)"
 
-// CheckNotAhead refuses a record whose workshop was created, or any of
-// whose facts (revisions, weight sets, agreed priors, study data, events)
-// is dated, more than MaxAhead after now, the importing machine's clock
-// (RuleAheadOfClock, at the date's path, e.g. "events[4].at"). The
-// detail names the fact as the record does: its kind and id, with its
-// question or round.
+// CheckNotAhead refuses a record with a time, of those the importing
+// store keeps, dated more than MaxAhead after now, the importing
+// machine's clock (RuleAheadOfClock, at the time's path, e.g.
+// "events[4].at"): the workshop's creation, each expert's addition
+// (experts[i].created), each question's reveal of its true value
+// (questions[i].revealed_at) and every fact (revisions, weight sets,
+// agreed priors, study data, events). The detail names the fact as the
+// record does: its kind and id, with its question or round. The facts
+// are what the store stamps new facts after; the other times a reader
+// takes as when the panel was formed or a true value shown. A question's
+// agreed_prior, the weights in force and the chain's facts repeat times
+// checked here (Validate holds them equal), and a batch's observed_on
+// is held to its at (workshop.StudyData.CheckObservedBy). generated_at,
+// when the record was written, is not checked: the import keeps nothing
+// of it, and a record written by a machine whose clock then ran ahead is
+// as true as any (DEVELOPERS.md, "The record's fingerprint").
 func (r Record) CheckNotAhead(now time.Time) error {
 	limit := now.Add(MaxAhead)
 	ahead := func(path, what string, at time.Time) error {
@@ -40,6 +51,20 @@ func (r Record) CheckNotAhead(now time.Time) error {
 	}
 	if err := ahead("workshop.created", fmt.Sprintf("workshop %d's creation", r.Workshop.ID), r.Workshop.Created); err != nil {
 		return err
+	}
+	for i, e := range r.Experts {
+		if err := ahead(fmt.Sprintf("experts[%d].created", i), fmt.Sprintf("expert %d's addition to the panel", e.ID), e.Created); err != nil {
+			return err
+		}
+	}
+	for i, q := range r.Questions {
+		if q.RevealedAt == nil {
+			continue
+		}
+		what := fmt.Sprintf("the reveal of question %d's true value", q.ID)
+		if err := ahead(fmt.Sprintf("questions[%d].revealed_at", i), what, *q.RevealedAt); err != nil {
+			return err
+		}
 	}
 	for i, rv := range r.Revisions {
 		what := fmt.Sprintf("revision %d, of question %d in round %d", rv.ID, rv.QuestionID, rv.Round)
