@@ -10,6 +10,8 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
 	"github.com/parley-elicit/parley/elicit/record"
 )
 
@@ -26,9 +28,25 @@ import (
 // is kept unfitted (record.EarlierRule). The imported workshop exports a
 // record that imports again. Where the record carries its fingerprint
 // chain, parley fingerprint finds in it the value it was written with.
+// The schema describes every record a build wrote that the import takes
+// (its description says so): each of these, and its export again,
+// matches testdata/export.schema.json.
 func TestRecordsOfEarlierBuildsImport(t *testing.T) {
 	files, err := filepath.Glob("../../testdata/records/demo_*.json")
 	check(t, err)
+	sch, err := jsonschema.NewCompiler().Compile("../../testdata/export.schema.json")
+	check(t, err)
+	matchesSchema := func(t *testing.T, file string) {
+		t.Helper()
+		f, err := os.Open(file)
+		check(t, err)
+		defer f.Close()
+		doc, err := jsonschema.UnmarshalJSON(f)
+		check(t, err)
+		if err := sch.Validate(doc); err != nil {
+			t.Errorf("%s, which the import takes, does not match testdata/export.schema.json: %v", filepath.Base(file), err)
+		}
+	}
 	if len(files) < 6 {
 		t.Fatalf("%d records of earlier builds, want 6", len(files))
 	}
@@ -42,6 +60,7 @@ func TestRecordsOfEarlierBuildsImport(t *testing.T) {
 			if strings.TrimSpace(out) == "" {
 				t.Fatal("import printed no workshop id")
 			}
+			matchesSchema(t, f)
 			again := filepath.Join(t.TempDir(), "again.json")
 			code, _, errs = run("export", "--db", db, "--workshop", strings.TrimSpace(out), "--format", "json", "--out", again)
 			if code != exitOK {
@@ -50,6 +69,7 @@ func TestRecordsOfEarlierBuildsImport(t *testing.T) {
 			if code, _, errs := run("import", "--db", filepath.Join(t.TempDir(), "again.db"), "--in", again); code != exitOK {
 				t.Fatalf("import of that export: exit %d: %s", code, errs)
 			}
+			matchesSchema(t, again)
 			if code, _, errs := run("fingerprint", "--in", f); code != exitOK {
 				t.Fatalf("fingerprint: exit %d: %s", code, errs)
 			}

@@ -7,6 +7,8 @@ import (
 	"slices"
 	"testing"
 
+	"github.com/santhosh-tekuri/jsonschema/v6"
+
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -50,6 +52,19 @@ func TestAPriorWrittenWithoutItsSummaryReads(t *testing.T) {
 	if _, err := Parse(bytes.NewReader(withoutKeys(t, built, "mean", "sd", "percentiles", "warnings"))); err != nil {
 		t.Fatalf("a record whose agreed_prior has no summary: %v", err)
 	}
+	// The schema, which describes every record the import takes, says
+	// the same: all three keys or none.
+	sch := compileSchema(t)
+	schemaDoc := func(b []byte) any {
+		doc, err := jsonschema.UnmarshalJSON(bytes.NewReader(b))
+		if err != nil {
+			t.Fatal(err)
+		}
+		return doc
+	}
+	if err := sch.Validate(schemaDoc(withoutKeys(t, built, "mean", "sd", "percentiles", "warnings"))); err != nil {
+		t.Errorf("an agreed_prior without its summary does not match the schema: %v", err)
+	}
 	// Told by its keys, not by its numbers: a summary written as 0s is
 	// a summary, and wrong.
 	zeros := built
@@ -87,6 +102,9 @@ func TestAPriorWrittenWithoutItsSummaryReads(t *testing.T) {
 			var ie *elicit.InputError
 			if !errors.As(err, &ie) || ie.Field != c.field || ie.Rule != RulePriorMismatch {
 				t.Fatalf("Parse = %v, want %s: %s", err, c.field, RulePriorMismatch)
+			}
+			if sch.Validate(schemaDoc(withoutKeys(t, built, c.keys...))) == nil {
+				t.Errorf("an agreed_prior with %s matches the schema, which the import refuses", c.name)
 			}
 		})
 	}

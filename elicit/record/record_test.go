@@ -151,6 +151,14 @@ func TestRecordMatchesSchema(t *testing.T) {
 	if err := sch.Validate(asJSONValue(t, buildInvented(t))); err != nil {
 		t.Fatalf("built record does not match testdata/export.schema.json: %v", err)
 	}
+	// The schema takes the records of earlier builds too, so it does not
+	// require what only they lack; today's record writes it.
+	cur := asJSONValue(t, buildInvented(t)).(map[string]any)["questions"].([]any)[0].(map[string]any)["agreed_prior"].(map[string]any)
+	for _, k := range []string{"mean", "sd", "percentiles"} {
+		if _, ok := cur[k]; !ok {
+			t.Errorf("today's record writes an agreed_prior without %q", k)
+		}
+	}
 	// A judgement read from an answer sheet names it.
 	doc := asJSONValue(t, buildInvented(t)).(map[string]any)
 	doc["revisions"].([]any)[0].(map[string]any)["sheet"] = map[string]any{"file": "", "row": json.Number("2"), "sha256": strings.Repeat("0f", 32)}
