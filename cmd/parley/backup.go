@@ -6,6 +6,7 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"log/slog"
 	"os"
 	"path/filepath"
 
@@ -39,7 +40,8 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	if err := creatable("out", *out); err != nil {
 		return fail(stderr, "backup", err)
 	}
-	db, err := openForReading(*dbPath)
+	log := commandLog(stderr)
+	db, err := openForReading(*dbPath, log)
 	if err != nil {
 		return fail(stderr, "backup", err)
 	}
@@ -55,7 +57,7 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 		}
 		return fail(stderr, "backup", err)
 	}
-	verdict, err := checkCopy(ctx, *out)
+	verdict, err := checkCopy(ctx, *out, log)
 	if err != nil {
 		return fail(stderr, "backup", err)
 	}
@@ -66,8 +68,8 @@ func runBackup(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 	return exitOK
 }
 
-func checkCopy(ctx context.Context, path string) (string, error) {
-	cp, err := store.Open(path)
+func checkCopy(ctx context.Context, path string, log *slog.Logger) (string, error) {
+	cp, err := openStore(path, log)
 	if err != nil {
 		return "", err
 	}
@@ -75,9 +77,10 @@ func checkCopy(ctx context.Context, path string) (string, error) {
 	return cp.IntegrityCheck(ctx)
 }
 
-// openExisting opens a database that must already exist; store.Open
-// would otherwise create an empty one at a mistyped path.
-func openExisting(path string) (*store.DB, error) {
+// openExisting opens a database that must already exist, with the
+// command's log (openStore); store.Open would otherwise create an empty
+// one at a mistyped path.
+func openExisting(path string, log *slog.Logger) (*store.DB, error) {
 	if path == "" {
 		return nil, badInput("db", "a database file is required")
 	}
@@ -87,7 +90,7 @@ func openExisting(path string) (*store.DB, error) {
 	if err := parleyDatabase(path); err != nil {
 		return nil, err
 	}
-	db, err := store.Open(path)
+	db, err := openStore(path, log)
 	if err != nil {
 		return nil, notADatabase(path, fmt.Errorf("open %s: %w", path, err))
 	}
@@ -118,7 +121,7 @@ func notADatabase(path string, err error) error {
 // as it stands, so that it can still be exported or copied to a writable
 // disk; openExisting, which opens the writer and upgrades, refused it
 // with "attempt to write a readonly database".
-func openForReading(path string) (*store.DB, error) {
+func openForReading(path string, log *slog.Logger) (*store.DB, error) {
 	if path == "" {
 		return nil, badInput("db", "a database file is required")
 	}
@@ -127,7 +130,7 @@ func openForReading(path string) (*store.DB, error) {
 	}
 	var nw *store.NotWritableError
 	if err := store.CheckWritable(path); !errors.As(err, &nw) {
-		return openExisting(path)
+		return openExisting(path, log)
 	}
 	db, err := store.OpenReadOnly(path)
 	var np *store.NotParleyError

@@ -49,7 +49,7 @@ func runExport(args []string, _ io.Reader, stdout, stderr io.Writer) int {
 			return fail(stderr, "export", badInput("out", "%s is %s; write the record to a file of its own (export replaces the file --out names)", *out, beside))
 		}
 	}
-	db, err := openForReading(*dbPath)
+	db, err := openForReading(*dbPath, commandLog(stderr))
 	if err != nil {
 		return fail(stderr, "export", err)
 	}

@@ -50,7 +50,7 @@ func runFacilitatorReset(args []string, _ io.Reader, stdout, stderr io.Writer) i
 			return fail(stderr, "facilitator-reset", err)
 		}
 	}
-	db, err := openExisting(*dbPath)
+	db, err := openExisting(*dbPath, commandLog(stderr))
 	if err != nil {
 		return fail(stderr, "facilitator-reset", err)
 	}

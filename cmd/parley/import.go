@@ -6,11 +6,11 @@ import (
 	"fmt"
 	"io"
 	"io/fs"
+	"log/slog"
 	"os"
 	"path/filepath"
 
 	"github.com/parley-elicit/parley/elicit/record"
-	"github.com/parley-elicit/parley/store"
 )
 
 func init() {
@@ -60,7 +60,7 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 	if err := rec.Record.CheckLogged(); err != nil {
 		return fail(stderr, "import", err)
 	}
-	id, err := importInto(*dbPath, rec)
+	id, err := importInto(*dbPath, rec, commandLog(stderr))
 	if err != nil {
 		return fail(stderr, "import", err)
 	}
@@ -73,12 +73,12 @@ func runImport(args []string, stdin io.Reader, stdout, stderr io.Writer) int {
 // new one is built under a temporary name in the same folder and renamed
 // into place only when whole and closed: a failed import (a full disk, an
 // I/O error) removes it with its journal files and leaves nothing behind.
-func importInto(path string, rec record.Checked) (int64, error) {
+func importInto(path string, rec record.Checked, log *slog.Logger) (int64, error) {
 	if _, err := os.Stat(path); err == nil {
 		if err := notAnothersDatabase(path); err != nil {
 			return 0, err
 		}
-		db, err := store.Open(path)
+		db, err := openStore(path, log)
 		if err != nil {
 			return 0, notADatabase(path, err)
 		}
@@ -97,7 +97,7 @@ func importInto(path string, rec record.Checked) (int64, error) {
 			os.Remove(tmp.Name() + suffix)
 		}
 	}
-	db, err := store.Open(tmp.Name())
+	db, err := openStore(tmp.Name(), log)
 	if err != nil {
 		remove()
 		return 0, err

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"log/slog"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -15,7 +14,6 @@ import (
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
-	"github.com/parley-elicit/parley/store"
 )
 
 func init() {
@@ -80,14 +78,13 @@ func runImportAnswers(args []string, stdin io.Reader, stdout, stderr io.Writer) 
 	if err := parleyDatabase(*dbPath); err != nil {
 		return fail(stderr, "import-answers", err)
 	}
-	db, err := store.Open(*dbPath)
+	// The store's warning of a workshop stamped ahead of this clock goes
+	// to stderr in the form parley serve writes it.
+	db, err := openStore(*dbPath, commandLog(stderr))
 	if err != nil {
 		return fail(stderr, "import-answers", notADatabase(*dbPath, err))
 	}
 	defer db.Close()
-	// The store's warning of a workshop stamped ahead of this clock, in
-	// the form parley serve writes it.
-	db.SetLogger(slog.New(slog.NewTextHandler(stderr, nil)))
 	ctx := context.Background()
 	ws, err := db.Workshop(ctx, wid)
 	if err != nil {

@@ -6,7 +6,6 @@ import (
 	"errors"
 	"fmt"
 	"io"
-	"log/slog"
 	"net"
 	"net/http"
 	"net/url"
@@ -144,15 +143,14 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
-	db, err := store.Open(dbPath)
+	// The server's log: its requests' failures, and the store's warning
+	// of a workshop stamped ahead of this machine's clock.
+	logger := commandLog(stderr)
+	db, err := openStore(dbPath, logger)
 	if err != nil {
 		return notADatabase(c.db, err)
 	}
 	defer db.Close()
-	// The server's log: its requests' failures, and the store's warning
-	// of a workshop stamped ahead of this machine's clock.
-	logger := slog.New(slog.NewTextHandler(stderr, nil))
-	db.SetLogger(logger)
 	fmt.Fprintf(stdout, "parley: database %s\n", dbPath)
 	if _, err := db.PurgeSessions(ctx, time.Now()); err != nil {
 		return err
