@@ -627,3 +627,26 @@ func TestPriorFixesTheQuestionsScale(t *testing.T) {
 	}
 	readsBack("after a correction refused under a consensus prior")
 }
+
+// A name that reads as an answer sheet's id:N is refused by the roster,
+// naming the field, and nobody is added: a sheet's id:5 would name both
+// expert 5 and the expert so named (answersheet.NamedLikeAnID). The
+// roster took it, and a sheet's row for id:5 went to expert 5 unseen.
+func TestRosterRefusesANameThatReadsAsAnID(t *testing.T) {
+	h := newHarness(t)
+	h.signIn()
+	ws := h.newWorkshop("Roster (invented)")
+	h.addExpert(ws, "Ada Quell")
+	for _, name := range []string{"id:5", " ID:1 ", "id:12"} {
+		r, body := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {name}, "allow_duplicate": {"on"}})
+		if r.StatusCode != http.StatusUnprocessableEntity || !hasFieldError(body, "name") || !strings.Contains(body, "reads as an answer sheet") {
+			t.Errorf("name %q: %d, refused beside the name %v", name, r.StatusCode, hasFieldError(body, "name"))
+		}
+	}
+	if es, _ := h.db.Experts(context.Background(), ws.ID); len(es) != 1 {
+		t.Fatalf("%d experts on the panel, want 1", len(es))
+	}
+	if r, _ := h.post(workshopPath(ws.ID)+"/experts", url.Values{"name": {"Idris Okafor (invented)"}}); r.StatusCode != http.StatusSeeOther {
+		t.Errorf("a name beginning Id: %d", r.StatusCode)
+	}
+}

@@ -9,6 +9,7 @@ import (
 	"github.com/a-h/templ"
 
 	"github.com/parley-elicit/parley/elicit"
+	"github.com/parley-elicit/parley/elicit/answersheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
@@ -42,6 +43,12 @@ func (s *Server) addExpert(w http.ResponseWriter, r *http.Request) {
 		Name:        f.Text("name", input.MaxShortText, true),
 		Affiliation: f.Text("affiliation", input.MaxShortText, false),
 		Expertise:   f.Text("expertise", input.MaxLongText, false),
+	}
+	if f.OK() && answersheet.NamedLikeAnID(e.Name) {
+		// An answer sheet names an expert by name or by id:N; a name of
+		// that form made a sheet's id:5 credit expert 5 or the expert so
+		// named, whichever the reader met first.
+		f.set("name", "“"+e.Name+"” reads as an answer sheet's id:N, which names an expert by number. Type the expert's name.")
 	}
 	if f.OK() && !f.Checked("allow_duplicate") {
 		others, err := s.store.Experts(r.Context(), ws.ID)

@@ -369,6 +369,9 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 			// The ids to name them by, which no page shows: "name each
 			// by id:N" alone left the facilitator looking for N.
 			detail += " is the name of " + sameNamed(cell("expert"), experts)
+			if e, ok := idOwner(cell("expert"), experts); ok {
+				detail += ", and the id of " + input.Clip(e.Name, 40) + " (name them by name)"
+			}
 		}
 		if e, revoked := revokedExpert(cell("expert"), experts); n == 0 && revoked {
 			// Said as such: "names no active expert" left the
@@ -543,23 +546,41 @@ func underColumn(line int, column string, err error) error {
 // findExpert finds an active expert by name (case and spaces folded, as
 // workshop.SameName) or by id:N, and says how many it found: two experts of one
 // name must be named by id.
+//
+// A cell of the form id:N that is also an active expert's name (a name
+// typed on a panel before the roster refused such names, NamedLikeAnID)
+// names both: the one by id and the other by name are counted apart, so
+// that the row is refused as naming two experts rather than credited to
+// one of them unseen.
 func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
-	if id, ok := sheetID(s); ok {
-		for _, e := range experts {
-			if e.ID == id && !e.Revoked {
-				return e, 1
-			}
-		}
-		return workshop.Expert{}, 0
-	}
 	var found workshop.Expert
 	n := 0
+	id, byID := sheetID(s)
 	for _, e := range experts {
-		if !e.Revoked && sameName(e.Name, s) {
+		if !e.Revoked && ((byID && e.ID == id) || sameName(e.Name, s)) {
 			found, n = e, n+1
 		}
 	}
 	return found, n
+}
+
+// idOwner is the active expert whose id the cell s gives as id:N, if any.
+func idOwner(s string, experts []workshop.Expert) (workshop.Expert, bool) {
+	id, ok := sheetID(s)
+	for _, e := range experts {
+		if ok && e.ID == id && !e.Revoked {
+			return e, true
+		}
+	}
+	return workshop.Expert{}, false
+}
+
+// NamedLikeAnID reports that a name reads as an answer sheet's id:N, so
+// that a sheet's id:N would name two experts: the roster refuses such a
+// name.
+func NamedLikeAnID(name string) bool {
+	_, ok := sheetID(name)
+	return ok
 }
 
 // apostrophes are the marks a spreadsheet may put for a typed ' (a
