@@ -15,7 +15,8 @@ import (
 // Parley, the input rules only its errors, the workshop the mathematics
 // and the input rules, the record's fingerprint the workshop, the record
 // and the answer sheet those and the workshop (the record also the
-// fingerprint) (DEVELOPERS.md, "Layout"). Test files may import more.
+// fingerprint), the calibration sheet the answer sheet's reading of a
+// spreadsheet's CSV (DEVELOPERS.md, "Layout"). Test files may import more.
 func TestImportsPointInward(t *testing.T) {
 	const module = "github.com/parley-elicit/parley/"
 	allowed := map[string][]string{
@@ -26,6 +27,7 @@ func TestImportsPointInward(t *testing.T) {
 		"fingerprint":           {"elicit", "elicit/workshop"},
 		"record":                {"elicit", "elicit/input", "elicit/workshop", "elicit/fingerprint"},
 		"answersheet":           {"elicit", "elicit/input", "elicit/workshop"},
+		"calibsheet":            {"elicit", "elicit/input", "elicit/answersheet"},
 	}
 	dirs := 0
 	err := filepath.WalkDir(".", func(path string, d os.DirEntry, err error) error {

@@ -1,22 +1,17 @@
 package main
 
 import (
-	"bytes"
-	"encoding/csv"
 	"errors"
 	"fmt"
 	"io"
 	"math"
 	"os"
-	"regexp"
 	"strconv"
 	"strings"
 	"text/tabwriter"
-	"unicode/utf8"
 
 	"github.com/parley-elicit/parley/elicit"
-	"github.com/parley-elicit/parley/elicit/answersheet"
-	"github.com/parley-elicit/parley/elicit/input"
+	"github.com/parley-elicit/parley/elicit/calibsheet"
 )
 
 func init() {
@@ -66,23 +61,27 @@ func runCalibrate(args []string, stdin io.Reader, stdout, stderr io.Writer) int 
 		defer f.Close()
 		r = f
 	}
-	seeds, err := readSeedCSV(r)
+	seeds, err := calibsheet.Read(r)
 	if err != nil {
+		var ie *elicit.InputError
+		if !errors.As(err, &ie) {
+			err = badInput("input", "%v", err) // the file's own, such as a folder's "is a directory"
+		}
 		return fail(stderr, "calibrate", err)
 	}
-	if len(seeds.hashRows) > 0 {
-		fmt.Fprintf(stderr, "parley calibrate: note: %s\n", hashRowsWords(seeds.hashRows))
+	if note := seeds.CommentNote(); note != "" {
+		fmt.Fprintf(stderr, "parley calibrate: note: %s\n", note)
 	}
-	opt.LogScale = seeds.logScale
-	s, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, seeds.bounds, opt)
+	opt.LogScale = seeds.LogScale
+	s, err := elicit.ClassicalModel(seeds.Assessments, seeds.Realisations, seeds.Bounds, opt)
 	if err != nil {
-		return fail(stderr, "calibrate", seeds.rowError(err))
+		return fail(stderr, "calibrate", seeds.RowError(err))
 	}
 	var rob *elicit.LeaveOneOutReport
 	if *loo {
-		r, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, seeds.bounds, opt, nil)
+		r, err := elicit.LeaveOneOut(seeds.Assessments, seeds.Realisations, seeds.Bounds, opt, nil)
 		if err != nil {
-			return fail(stderr, "calibrate", seeds.rowError(err))
+			return fail(stderr, "calibrate", seeds.RowError(err))
 		}
 		rob = &r
 	}
@@ -194,457 +193,6 @@ func rerunNote(c elicit.LeaveOneOutCase, kinds map[string]int) string {
 		return "leaving out the only expert leaves no one to score"
 	}
 	return c.Error
-}
-
-// seedCSV is a parsed calibration CSV; rows[i] is the file line of
-// assessments[i].
-type seedCSV struct {
-	assessments  []elicit.SeedAssessment
-	realisations map[string]float64
-	bounds       map[string][2]float64 // questions with a lower and an upper bound
-	logScale     map[string]bool       // questions scored against the log-uniform background
-	rows         []int
-	qcols        []string // the quantile columns' names
-	// hashRows are the rows read as comments that hold an assessment
-	// (hashAssessments).
-	hashRows []int
-}
-
-// quantileColumn is a qNN header: the probability 0.NN, e.g. q05 → 0.05,
-// q975 → 0.975.
-var quantileColumn = regexp.MustCompile(`^q([0-9]{2,})$`)
-
-// seedHeader are the leading columns of a calibration CSV. The British
-// spelling "realisation" is accepted too.
-var seedHeader = []string{"expert", "question", "realization"}
-
-// boundColumns may follow the leading columns: a question's lower and
-// upper bound, as the workshop's questions have (0 and 1 for a
-// proportion). The intrinsic range is cut to them, as on the calibration
-// page, so the same answers score the same here and there.
-var boundColumns = []string{"lower", "upper"}
-
-// scaleColumn may stand right before the quantile columns: "log-uniform" scores
-// a question's information against the log-uniform background
-// (elicit.ModelOptions.LogScale), for quantities spread over orders of
-// magnitude; "uniform" or empty against the uniform, as the page does by
-// default. Named for the classical model's background measure.
-const scaleColumn = "background"
-
-// maxSeedInput bounds a calibration CSV: 200 experts answering 100
-// calibration questions take about 1.2 MB.
-const maxSeedInput = 4 << 20
-
-// readSeedCSV reads a calibration CSV: a header expert,question,
-// realization, optionally lower,upper, followed by quantile columns qNN in
-// increasing order (usually q05, q50, q95); then one row per expert and
-// question.
-// Lines starting with # are comments; a byte order mark and lines ended
-// by a carriage return alone are read as the answer sheet reads them.
-// Errors name the row (the line in the file), the column and the rule.
-func readSeedCSV(r io.Reader) (*seedCSV, error) {
-	// A file is read whole only up to maxSeedInput: it read any file
-	// whole (a 200 MB line took gigabytes and crashed).
-	b, err := io.ReadAll(io.LimitReader(r, maxSeedInput+1))
-	if err != nil {
-		return nil, badInput("input", "%v", err)
-	}
-	if len(b) > maxSeedInput {
-		return nil, &elicit.InputError{Field: "input", Rule: input.RuleTooLong, Detail: fmt.Sprintf("more than %d bytes (4 MiB)", maxSeedInput)}
-	}
-	// Read as the answer sheet reads a spreadsheet's CSV: its lines
-	// ended by a carriage return alone were one row, and a header in
-	// quote marks with semicolons between its cells ("expert";"question")
-	// was refused by CSV's rule of quote marks, not as semicolon-separated.
-	if answersheet.InUTF16(b) {
-		return nil, &elicit.InputError{Field: "input", Rule: ruleUTF8, Detail: "it is saved as UTF-16 (Unicode text)"}
-	}
-	b = answersheet.SpreadsheetLines(b)
-	if sep := answersheet.OtherSeparator(b); sep != "" {
-		return nil, &elicit.InputError{Field: "header", Rule: answersheet.RuleCommas, Detail: "the columns are separated by " + sep}
-	}
-	cr := csv.NewReader(bytes.NewReader(b))
-	cr.Comment = '#'
-	cr.FieldsPerRecord = -1
-	cr.TrimLeadingSpace = true
-	header, err := cr.Read()
-	if err == io.EOF {
-		return nil, &elicit.InputError{Field: "header", Rule: elicit.RuleRequired, Detail: "the file is empty"}
-	}
-	if err != nil {
-		return nil, csvError(err)
-	}
-	cols, probs, err := parseSeedHeader(header)
-	if err != nil {
-		return nil, err
-	}
-	firstQ := len(cols) - len(probs) // the first quantile column
-	hasScale := cols[firstQ-1] == scaleColumn
-	hasBounds := firstQ-len(seedHeader) >= len(boundColumns)
-	out := &seedCSV{realisations: map[string]float64{}, bounds: map[string][2]float64{}, logScale: map[string]bool{}, qcols: cols[firstQ:]}
-	realRow := map[string]int{}
-	scaleRow := map[string]int{}
-	boundsRow := map[string]int{}
-	seen := map[[2]string]int{}
-	for {
-		rec, err := cr.Read()
-		if err == io.EOF {
-			break
-		}
-		if err != nil {
-			return nil, csvError(err)
-		}
-		if strings.TrimSpace(strings.Join(rec, "")) == "" {
-			// A row of empty cells, as a spreadsheet writes below its
-			// data (",,,,,"): no assessment, as the answer sheet reads it.
-			continue
-		}
-		row, _ := cr.FieldPos(0)
-		field := func(col string) string { return fmt.Sprintf("row %d: %s", row, col) }
-		cell := func(i int) string {
-			if i < len(rec) {
-				return strings.TrimSpace(rec[i])
-			}
-			return ""
-		}
-		// A spreadsheet's plain CSV in Windows-1252, as the answer sheet
-		// says it: a name with an accent was "must be plain text (no
-		// control characters …) (not UTF-8)".
-		for i, c := range rec {
-			if !utf8.ValidString(c) {
-				col := strconv.Itoa(i + 1)
-				if i < len(cols) {
-					col = cols[i]
-				}
-				return nil, &elicit.InputError{Field: field(col), Rule: ruleUTF8,
-					Detail: fmt.Sprintf("%s is in another encoding, such as Windows-1252", strconv.Quote(input.Clip(c, 40)))}
-			}
-		}
-		if len(rec) > len(cols) {
-			return nil, &elicit.InputError{Field: field("columns"), Rule: elicit.RuleCount,
-				Detail: fmt.Sprintf("%d fields, the header has %d", len(rec), len(cols))}
-		}
-		// Names are printed back to the terminal: the text rule keeps
-		// control characters (an ESC sequence, NUL) and broken UTF-8 out.
-		a := elicit.SeedAssessment{Probs: probs, Quantiles: make([]float64, len(probs))}
-		if a.Expert, err = input.Text(field("expert"), cell(0), input.MaxShortText, true); err != nil {
-			return nil, err
-		}
-		if a.Question, err = input.Text(field("question"), cell(1), input.MaxShortText, true); err != nil {
-			return nil, err
-		}
-		x, err := number(field(cols[2]), cell(2))
-		if err != nil {
-			return nil, err
-		}
-		if err := elicit.CheckMagnitude(field(cols[2]), x); err != nil {
-			return nil, err
-		}
-		var b [2]float64
-		bounded := false
-		if hasBounds {
-			if b, bounded, err = seedBounds(field, cell(3), cell(4)); err != nil {
-				return nil, err
-			}
-			if bounded && (x < b[0] || x > b[1]) {
-				return nil, &elicit.InputError{Field: field(cols[2]), Rule: elicit.RuleInRange,
-					Detail: fmt.Sprintf("%v outside [%v, %v]", x, b[0], b[1])}
-			}
-		}
-		for j := range probs {
-			if a.Quantiles[j], err = number(field(cols[firstQ+j]), cell(firstQ+j)); err != nil {
-				return nil, err
-			}
-		}
-		if err := a.Validate(); err != nil {
-			return nil, renameQuantiles(err, fmt.Sprintf("row %d", row), cols[firstQ:])
-		}
-		logScale := false
-		if hasScale {
-			if logScale, err = seedScale(field, cell(firstQ-1), x, b, bounded, a.Quantiles, cols[firstQ:]); err != nil {
-				return nil, err
-			}
-			if first, ok := scaleRow[a.Question]; ok && out.logScale[a.Question] != logScale {
-				return nil, &elicit.InputError{Field: field(scaleColumn), Rule: ruleSameScale,
-					Detail: fmt.Sprintf("%s here, %s on row %d", scaleWord(logScale), scaleWord(out.logScale[a.Question]), first)}
-			} else if !ok {
-				scaleRow[a.Question] = row
-				if logScale {
-					out.logScale[a.Question] = true
-				}
-			}
-		}
-		key := [2]string{a.Expert, a.Question}
-		if first, dup := seen[key]; dup {
-			return nil, &elicit.InputError{Field: field("expert, question"), Rule: elicit.RuleDuplicate,
-				Detail: fmt.Sprintf("expert %q and question %q already on row %d", a.Expert, a.Question, first)}
-		}
-		seen[key] = row
-		if first, ok := realRow[a.Question]; ok && out.realisations[a.Question] != x {
-			return nil, &elicit.InputError{Field: field(cols[2]), Rule: ruleSameRealisation,
-				Detail: fmt.Sprintf("%v here, %v on row %d", x, out.realisations[a.Question], first)}
-		} else if !ok {
-			realRow[a.Question] = row
-			out.realisations[a.Question] = x
-		}
-		if hasBounds {
-			had, seenBefore := out.bounds[a.Question]
-			if first, ok := boundsRow[a.Question]; ok && (seenBefore != bounded || had != b) {
-				return nil, &elicit.InputError{Field: field("lower, upper"), Rule: ruleSameBounds,
-					Detail: fmt.Sprintf("%s here, %s on row %d", boundsText(b, bounded), boundsText(had, seenBefore), first)}
-			} else if !ok {
-				boundsRow[a.Question] = row
-				if bounded {
-					out.bounds[a.Question] = b
-				}
-			}
-		}
-		out.assessments = append(out.assessments, a)
-		out.rows = append(out.rows, row)
-	}
-	out.hashRows = hashAssessments(b, len(cols))
-	if len(out.assessments) == 0 {
-		detail := "no assessments after the header"
-		if len(out.hashRows) > 0 {
-			detail += "; " + hashRowsWords(out.hashRows)
-		}
-		return nil, &elicit.InputError{Field: "rows", Rule: elicit.RuleCount, Detail: detail}
-	}
-	return out, nil
-}
-
-// hashAssessments finds the rows below the header that CSV skips as
-// comments (they start with #) but that hold an assessment: as many
-// cells as the header, a number as the realisation. A panel named #1,
-// #2, … had those rows dropped without a word. Unlike the answer sheet,
-// the file names no panel that would tell such a name from a row put
-// out of the count on purpose, so they are not refused: the run says
-// which rows it left out (hashRowsWords). The lines are found as the
-// answer sheet finds them (answersheet.CommentRows).
-func hashAssessments(body []byte, ncols int) []int {
-	var rows []int
-	for _, c := range answersheet.CommentRows(body, true) {
-		if len(c.Cells) != ncols {
-			continue
-		}
-		if _, err := strconv.ParseFloat(strings.TrimSpace(c.Cells[2]), 64); err == nil {
-			rows = append(rows, c.Line)
-		}
-	}
-	return rows
-}
-
-// hashRowsWords says which rows were read as comments though they hold
-// an assessment, and how to count them.
-func hashRowsWords(rows []int) string {
-	nums := make([]string, len(rows))
-	for i, r := range rows {
-		nums[i] = strconv.Itoa(r)
-	}
-	which := "row " + nums[0] + " starts with # and holds an assessment, so it was left out as a comment"
-	if len(rows) > 1 {
-		which = "rows " + strings.Join(nums, ", ") + " start with # and hold assessments, so they were left out as comments"
-	}
-	return which + `; to count an expert whose name starts with #, put the name in quote marks ("#1")`
-}
-
-// ruleSameRealisation is broken when rows of one question give different
-// realisations.
-const ruleSameRealisation elicit.Rule = "must be the same on every row of the question"
-
-// ruleSameBounds is broken when rows of one question give different bounds.
-const ruleSameBounds elicit.Rule = "must be the same on every row of the question (both empty for a question without bounds)"
-
-// ruleSameScale is broken when rows of one question give different scales.
-const ruleSameScale elicit.Rule = "must be the same on every row of the question (empty is uniform)"
-
-// ruleScaleWord is broken by a background cell other than uniform, log-uniform or empty.
-const ruleScaleWord elicit.Rule = "must be uniform or log-uniform (empty is uniform)"
-
-// seedScale reads a row's scale cell, and holds a row on the log scale
-// to elicit.RuleLogScalePositive here, where the message can name the
-// row and the column.
-func seedScale(field func(string) string, cell string, x float64, b [2]float64, bounded bool, qs []float64, qcols []string) (bool, error) {
-	switch strings.ToLower(cell) {
-	case "", "uniform":
-		return false, nil
-	case "log-uniform":
-	default:
-		return false, &elicit.InputError{Field: field(scaleColumn), Rule: ruleScaleWord, Detail: fmt.Sprintf("got %q", input.Clip(cell, 40))}
-	}
-	if !(x > 0) {
-		return true, &elicit.InputError{Field: field("realization"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", x)}
-	}
-	if bounded && !(b[0] >= 0) {
-		return true, &elicit.InputError{Field: field("lower"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("a lower bound below 0 (%v); 0 leaves the range uncut below", b[0])}
-	}
-	for j, v := range qs {
-		if !(v > 0) {
-			return true, &elicit.InputError{Field: field(qcols[j]), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", v)}
-		}
-	}
-	return true, nil
-}
-
-// scaleWord names a scale in a message.
-func scaleWord(log bool) string {
-	if log {
-		return "log-uniform"
-	}
-	return "uniform"
-}
-
-// ruleBoundsPair is broken when a row gives one bound and not the other.
-const ruleBoundsPair elicit.Rule = "must both be given, or both be empty for a question without bounds"
-
-// seedBounds reads a row's lower and upper cells: both empty is a
-// question without bounds; both given must be finite, within the
-// magnitude rule and in order (the classical model checks that the
-// realisation and the quantiles lie inside).
-func seedBounds(field func(string) string, lo, hi string) ([2]float64, bool, error) {
-	if lo == "" && hi == "" {
-		return [2]float64{}, false, nil
-	}
-	if lo == "" || hi == "" {
-		return [2]float64{}, false, &elicit.InputError{Field: field("lower, upper"), Rule: ruleBoundsPair,
-			Detail: fmt.Sprintf("lower %q, upper %q", lo, hi)}
-	}
-	var b [2]float64
-	for i, c := range [2]struct{ name, text string }{{"lower", lo}, {"upper", hi}} {
-		v, err := number(field(c.name), c.text)
-		if err != nil {
-			return b, false, err
-		}
-		if err := elicit.CheckMagnitude(field(c.name), v); err != nil {
-			return b, false, err
-		}
-		b[i] = v
-	}
-	if !(b[0] < b[1]) {
-		return b, false, &elicit.InputError{Field: field("upper"), Rule: elicit.RuleBoundsOrder,
-			Detail: fmt.Sprintf("lower %v, upper %v", b[0], b[1])}
-	}
-	return b, true, nil
-}
-
-// boundsText writes a question's bounds for a message.
-func boundsText(b [2]float64, bounded bool) string {
-	if !bounded {
-		return "no bounds"
-	}
-	return fmt.Sprintf("[%v, %v]", b[0], b[1])
-}
-
-func csvError(err error) error {
-	var pe *csv.ParseError
-	if errors.As(err, &pe) {
-		return &elicit.InputError{Field: fmt.Sprintf("row %d", pe.Line), Rule: ruleCSVSyntax, Detail: pe.Err.Error()}
-	}
-	return err
-}
-
-const ruleCSVSyntax elicit.Rule = "must be well-formed CSV"
-
-// ruleUTF8 is the answer sheet's rule of its encoding, said of the file.
-const ruleUTF8 elicit.Rule = "must be saved as UTF-8 (in a spreadsheet program: CSV UTF-8)"
-
-// parseSeedHeader checks the header and returns the column names and the
-// probabilities of the quantile columns.
-func parseSeedHeader(header []string) ([]string, []float64, error) {
-	cols := make([]string, len(header))
-	for i, h := range header {
-		cols[i] = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
-	}
-	for i, want := range seedHeader {
-		if i >= len(cols) || (cols[i] != want && !(want == "realization" && cols[i] == "realisation")) {
-			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("header column %d", i+1), Rule: ruleSeedHeader,
-				Detail: fmt.Sprintf("want %q", want)}
-		}
-	}
-	rest := cols[len(seedHeader):]
-	switch {
-	case len(rest) >= 2 && rest[0] == boundColumns[0] && rest[1] == boundColumns[1]:
-		rest = rest[2:]
-	case len(rest) >= 1 && (rest[0] == boundColumns[0] || rest[0] == boundColumns[1]):
-		return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(rest[0]), Rule: ruleSeedHeader,
-			Detail: "the bound columns are lower,upper, both, in that order, right after realization"}
-	}
-	if len(rest) >= 1 && rest[0] == scaleColumn {
-		rest = rest[1:]
-	}
-	var probs []float64
-	for _, c := range rest {
-		m := quantileColumn.FindStringSubmatch(c)
-		if m == nil {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: ruleSeedHeader,
-				Detail: "quantile columns are named qNN, e.g. q05, q50, q95"}
-		}
-		if len(m[1]) > 2 && strings.HasSuffix(m[1], "0") {
-			// q100 or q250 would read as 0.1 or 0.25: refuse the ambiguity.
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: ruleSeedHeader,
-				Detail: "the digits after q are the probability's decimals; drop the trailing 0"}
-		}
-		p, _ := strconv.ParseFloat("0."+m[1], 64)
-		if len(probs) > 0 && !(p > probs[len(probs)-1]) {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: elicit.RuleProbIncreasing,
-				Detail: fmt.Sprintf("%v after %v", p, probs[len(probs)-1])}
-		}
-		if p == 0 {
-			return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(input.Clip(c, 40)), Rule: elicit.RuleProbOpen, Detail: "got 0"}
-		}
-		probs = append(probs, p)
-	}
-	// The classical model scores any increasing probabilities, as the
-	// calibration page does for questions asked at 10/50/90; q05, q50 and
-	// q95 are the usual ones, not a rule.
-	if len(probs) == 0 {
-		return nil, nil, &elicit.InputError{Field: "header", Rule: elicit.RuleRequired,
-			Detail: "no quantile column; name them qNN, e.g. q05, q50, q95"}
-	}
-	return cols, probs, nil
-}
-
-const ruleSeedHeader elicit.Rule = "header must be expert,question,realization,q05,q50,q95 (lower,upper allowed after realization, then background; other qNN columns allowed, increasing)"
-
-// renameQuantiles turns a quantiles[j] field into the CSV column name, and
-// prefixes the row.
-func renameQuantiles(err error, row string, qcols []string) error {
-	var ie *elicit.InputError
-	if !errors.As(err, &ie) {
-		return err
-	}
-	c := *ie
-	for j, name := range qcols {
-		if c.Field == fmt.Sprintf("quantiles[%d]", j) {
-			c.Field = name
-		}
-	}
-	c.Field = row + ": " + c.Field
-	return &c
-}
-
-// rowError replaces an assessments[i] field in an error of the classical
-// model by the CSV row it came from, and quantiles[j] by its column:
-// assessments[0].quantiles[1] is "row 2: q50".
-func (s *seedCSV) rowError(err error) error {
-	var ie *elicit.InputError
-	if !errors.As(err, &ie) {
-		return err
-	}
-	for i, row := range s.rows {
-		p := fmt.Sprintf("assessments[%d]", i)
-		if ie.Field == p {
-			c := *ie
-			c.Field = fmt.Sprintf("row %d", row)
-			return &c
-		}
-		if rest, ok := strings.CutPrefix(ie.Field, p+"."); ok {
-			c := *ie
-			c.Field = rest
-			return renameQuantiles(&c, fmt.Sprintf("row %d", row), s.qcols)
-		}
-	}
-	return err
 }
 
 // writeScoresTable prints the scores as a table.

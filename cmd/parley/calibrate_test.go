@@ -8,7 +8,6 @@ import (
 	"os"
 	"os/exec"
 	"path/filepath"
-	"reflect"
 	"regexp"
 	"slices"
 	"strconv"
@@ -17,6 +16,7 @@ import (
 
 	"github.com/parley-elicit/parley/elicit"
 	"github.com/parley-elicit/parley/elicit/answersheet"
+	"github.com/parley-elicit/parley/elicit/calibsheet"
 	"github.com/parley-elicit/parley/elicit/input"
 	"github.com/parley-elicit/parley/elicit/record"
 	"github.com/parley-elicit/parley/elicit/workshop"
@@ -115,11 +115,11 @@ func inverterAssessments(t *testing.T) ([]elicit.SeedAssessment, map[string]floa
 		t.Fatal(err)
 	}
 	defer f.Close()
-	s, err := readSeedCSV(f)
+	s, err := calibsheet.Read(f)
 	if err != nil {
 		t.Fatal(err)
 	}
-	return s.assessments, s.realisations
+	return s.Assessments, s.Realisations
 }
 
 func TestCalibrateLeaveOneOut(t *testing.T) {
@@ -225,21 +225,21 @@ func TestCalibrateBadInput(t *testing.T) {
 		// every row, holding the realisation and the quantiles inside.
 		{"bounds header without upper", "expert,question,realization,lower,q05,q50,q95\nA,s1,1,0,0.5,1,2\n", nil, []string{`header column "lower"`, "lower,upper"}},
 		{"bounds header reversed", "expert,question,realization,upper,lower,q05,q50,q95\nA,s1,1,9,0,0.5,1,2\n", nil, []string{`header column "upper"`}},
-		{"one bound", boundsHead + "A,s1,1,0,,0.5,1,2\n", nil, []string{"row 2: lower, upper", string(ruleBoundsPair)}},
+		{"one bound", boundsHead + "A,s1,1,0,,0.5,1,2\n", nil, []string{"row 2: lower, upper", string(calibsheet.RuleBoundsPair)}},
 		{"bounds out of order", boundsHead + "A,s1,1,9,0,0.5,1,2\n", nil, []string{"row 2: upper", string(elicit.RuleBoundsOrder)}},
 		{"bound not a number", boundsHead + "A,s1,1,zero,9,0.5,1,2\n", nil, []string{"row 2: lower"}},
 		{"bound too large", boundsHead + "A,s1,1,0,1e301,0.5,1,2\n", nil, []string{"row 2: upper", string(elicit.RuleBoundsRange)}},
 		{"realization outside the bounds", boundsHead + "A,s1,12,0,9,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleInRange), "outside [0, 9]"}},
 		{"quantile on a bound", boundsHead + "A,s1,1,0,9,0,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleValueInBounds)}},
-		{"bounds differ", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,0,10,0.5,1,2\n", nil, []string{"row 3: lower, upper", string(ruleSameBounds), "[0, 10] here, [0, 9] on row 2"}},
+		{"bounds differ", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,0,10,0.5,1,2\n", nil, []string{"row 3: lower, upper", string(calibsheet.RuleSameBounds), "[0, 10] here, [0, 9] on row 2"}},
 		{"bounds dropped on one row", boundsHead + "A,s1,1,0,9,0.5,1,2\nB,s1,1,,,0.5,1,2\n", nil, []string{"row 3: lower, upper", "no bounds here, [0, 9] on row 2"}},
 		// A question on the log scale: its values above 0, its lower bound
 		// at least 0, one scale on every row; the word is uniform or log.
-		{"scale word", scaleHead + "A,s1,1,0,9,logarithmic,0.5,1,2\n", nil, []string{"row 2: background", string(ruleScaleWord), `"logarithmic"`}},
+		{"scale word", scaleHead + "A,s1,1,0,9,logarithmic,0.5,1,2\n", nil, []string{"row 2: background", string(calibsheet.RuleBackgroundWord), `"logarithmic"`}},
 		{"log realization at 0", scaleHead + "A,s1,0,0,9,log-uniform,0.5,1,2\n", nil, []string{"row 2: realization", string(elicit.RuleLogScalePositive)}},
 		{"log lower bound below 0", scaleHead + "A,s1,1,-1,9,log-uniform,0.5,1,2\n", nil, []string{"row 2: lower", string(elicit.RuleLogScalePositive)}},
 		{"log quantile below 0", "expert,question,realization,background,q05,q50,q95\nA,s1,1,log-uniform,-0.5,1,2\n", nil, []string{"row 2: q05", string(elicit.RuleLogScalePositive)}},
-		{"scales differ", scaleHead + "A,s1,1,0,9,log-uniform,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: background", string(ruleSameScale), "uniform here, log-uniform on row 2"}},
+		{"scales differ", scaleHead + "A,s1,1,0,9,log-uniform,0.5,1,2\nB,s1,1,0,9,,0.5,1,2\n", nil, []string{"row 3: background", string(calibsheet.RuleSameBackground), "uniform here, log-uniform on row 2"}},
 		// A spreadsheet set to a decimal comma saves semicolons or tabs
 		// between the columns, said as the answer sheet says it; it read
 		// "header column 1: … (want "expert")".
@@ -250,10 +250,10 @@ func TestCalibrateBadInput(t *testing.T) {
 		// in quoted-field)", as the answer sheet did before it was taught.
 		// A spreadsheet's "Unicode text": it read "header column 1: …
 		// (want "expert")" of a header whose first column is expert.
-		{"UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00,\x00q\x00\n\x00", nil, []string{"input: " + string(ruleUTF8), "UTF-16"}},
+		{"UTF-16", "\xff\xfee\x00x\x00p\x00e\x00r\x00t\x00,\x00q\x00\n\x00", nil, []string{"input: " + string(calibsheet.RuleUTF8), "UTF-16"}},
 		// A spreadsheet's plain CSV in Windows-1252: "José" was "must be
 		// plain text (no control characters …) (not UTF-8)".
-		{"Windows-1252", head + "Jos\xe9,s1,1,0,1,2\n", nil, []string{"row 2: expert: " + string(ruleUTF8), "Windows-1252"}},
+		{"Windows-1252", head + "Jos\xe9,s1,1,0,1,2\n", nil, []string{"row 2: expert: " + string(calibsheet.RuleUTF8), "Windows-1252"}},
 		{"semicolons between quoted cells", `"expert";"question";"realization";"q05";"q50";"q95"` + "\n" + `"A";"s1";"1";"0";"1";"2"` + "\n", nil, []string{"header: " + string(answersheet.RuleCommas), "separated by semicolons"}},
 	} {
 		args := []string{"calibrate", "--input", "-"}
@@ -278,15 +278,15 @@ func TestCalibrateBadInput(t *testing.T) {
 // rules. A score that is NaN or ±Inf prints nothing, in either format, and
 // is a failure (exit 1), not bad input.
 func TestCalibrateWriterRefusesNonFinite(t *testing.T) {
-	seeds, err := readSeedCSV(strings.NewReader("expert,question,realization,q05,q50,q95\nA,q1,3,2,5,8\nB,q1,3,4,5,6\n"))
+	seeds, err := calibsheet.Read(strings.NewReader("expert,question,realization,q05,q50,q95\nA,q1,3,2,5,8\nB,q1,3,4,5,6\n"))
 	if err != nil {
 		t.Fatal(err)
 	}
-	good, err := elicit.ClassicalModel(seeds.assessments, seeds.realisations, nil, elicit.ModelOptions{})
+	good, err := elicit.ClassicalModel(seeds.Assessments, seeds.Realisations, nil, elicit.ModelOptions{})
 	if err != nil {
 		t.Fatal(err)
 	}
-	rob, err := elicit.LeaveOneOut(seeds.assessments, seeds.realisations, nil, elicit.ModelOptions{}, nil)
+	rob, err := elicit.LeaveOneOut(seeds.Assessments, seeds.Realisations, nil, elicit.ModelOptions{}, nil)
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -335,7 +335,7 @@ func TestCalibrateNamesFollowTheTextRule(t *testing.T) {
 		{"C1 control", "A\u0085B", string(input.RuleTextValid), "U+0085"},
 		{"DEL", "A\x7f", string(input.RuleTextValid), "U+007F"},
 		// In the answer sheet's words for a file in another encoding.
-		{"invalid UTF-8", "\xff", string(ruleUTF8), "another encoding"},
+		{"invalid UTF-8", "\xff", string(calibsheet.RuleUTF8), "another encoding"},
 		{"201 characters", long, string(input.RuleTooLong), "got 201"},
 		{"blank", "  ", string(elicit.RuleRequired), ""},
 	} {
@@ -969,33 +969,6 @@ func TestCalibrateSkipsRowsOfEmptyCells(t *testing.T) {
 	code, got, errOut := runCLI(t, sheet+",,,,,\r\n , , ,,,\r\n,,,,,\r\n", "calibrate", "--input", "-", "--format", "json")
 	if code != exitOK || got != want || want == "" {
 		t.Errorf("with rows of empty cells: exit %d, %q; want the scores without them\n%s", code, errOut, got)
-	}
-}
-
-// TestCalibrateReadsASpreadsheetsLines: a calibration file as a
-// spreadsheet saves it, with lines ended by a carriage return alone
-// ("CSV (Macintosh)") or a byte order mark before a quoted header ("CSV
-// UTF-8"), is read as the same file with plain lines, as the answer
-// sheet reads it; the first was one row, refused as naming the header
-// column "q95\ra", the second by CSV's rule of quote marks.
-func TestCalibrateReadsASpreadsheetsLines(t *testing.T) {
-	plain := "expert,question,realization,q05,q50,q95\nA,q1,3,2,5,8\nB,q1,3,4,5,6\n"
-	want, err := readSeedCSV(strings.NewReader(plain))
-	if err != nil {
-		t.Fatal(err)
-	}
-	for name, file := range map[string]string{
-		"carriage returns":        strings.ReplaceAll(plain, "\n", "\r"),
-		"byte order mark, quoted": "\ufeff" + `"expert","question","realization","q05","q50","q95"` + plain[strings.IndexByte(plain, '\n'):],
-	} {
-		got, err := readSeedCSV(strings.NewReader(file))
-		if err != nil {
-			t.Errorf("%s: %v", name, err)
-			continue
-		}
-		if !reflect.DeepEqual(got.assessments, want.assessments) || !reflect.DeepEqual(got.realisations, want.realisations) {
-			t.Errorf("%s: read %+v, want %+v", name, got.assessments, want.assessments)
-		}
 	}
 }
 
