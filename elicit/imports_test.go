@@ -15,8 +15,9 @@ import (
 // Parley, the input rules only its errors, the workshop the mathematics
 // and the input rules, the record's fingerprint the workshop, the record
 // and the answer sheet those and the workshop (the record also the
-// fingerprint), the calibration sheet the answer sheet's reading of a
-// spreadsheet's CSV (DEVELOPERS.md, "Layout"). Test files may import more.
+// fingerprint, and the calibration sheet, whose columns its calibration
+// download writes), the calibration sheet the answer sheet's reading of
+// a spreadsheet's CSV (DEVELOPERS.md, "Layout"). Test files may import more.
 func TestImportsPointInward(t *testing.T) {
 	const module = "github.com/parley-elicit/parley/"
 	allowed := map[string][]string{
@@ -25,7 +26,7 @@ func TestImportsPointInward(t *testing.T) {
 		"workshop":              {"elicit", "elicit/input"},
 		"workshop/workshoptest": {"elicit", "elicit/workshop"},
 		"fingerprint":           {"elicit", "elicit/workshop"},
-		"record":                {"elicit", "elicit/input", "elicit/workshop", "elicit/fingerprint"},
+		"record":                {"elicit", "elicit/input", "elicit/workshop", "elicit/fingerprint", "elicit/calibsheet"},
 		"answersheet":           {"elicit", "elicit/input", "elicit/workshop"},
 		"calibsheet":            {"elicit", "elicit/input", "elicit/answersheet"},
 	}

@@ -27,27 +27,58 @@ import (
 //
 // Lines starting with # are comments.
 
+// The columns of a calibration sheet, as Read reads them and
+// record.WriteCalibrationCSV (the calibration page's download) writes
+// them.
+const (
+	ColumnExpert      = "expert"
+	ColumnQuestion    = "question"
+	ColumnRealisation = "realization" // "realisation" is read too
+	// ColumnLower and ColumnUpper may follow the leading columns, both
+	// or neither: a question's lower and upper bound, as the workshop's
+	// questions have (0 and 1 for a proportion). The intrinsic range is
+	// cut to them, as on the calibration page, so the same answers score
+	// the same here and there.
+	ColumnLower = "lower"
+	ColumnUpper = "upper"
+	// ColumnBackground may stand right before the quantile columns:
+	// BackgroundLogUniform scores a question's information against the
+	// log-uniform background (elicit.ModelOptions.LogScale), for
+	// quantities spread over orders of magnitude; BackgroundUniform or
+	// empty against the uniform, as the page does by default. Named for
+	// the classical model's background measure.
+	ColumnBackground = "background"
+)
+
+// The words of the background column.
+const (
+	BackgroundUniform    = "uniform"
+	BackgroundLogUniform = "log-uniform"
+)
+
+// leadingColumns are the columns every sheet starts with.
+var leadingColumns = []string{ColumnExpert, ColumnQuestion, ColumnRealisation}
+
 // quantileColumn is a qNN header: the probability 0.NN, e.g. q05 → 0.05,
 // q975 → 0.975.
 var quantileColumn = regexp.MustCompile(`^q([0-9]{2,})$`)
 
-// leadingColumns are the columns every sheet starts with. The British
-// spelling "realisation" is accepted too.
-var leadingColumns = []string{"expert", "question", "realization"}
-
-// boundColumns may follow the leading columns: a question's lower and
-// upper bound, as the workshop's questions have (0 and 1 for a
-// proportion). The intrinsic range is cut to them, as on the calibration
-// page, so the same answers score the same here and there.
-var boundColumns = []string{"lower", "upper"}
-
-// backgroundColumn may stand right before the quantile columns:
-// "log-uniform" scores a question's information against the log-uniform
-// background (elicit.ModelOptions.LogScale), for quantities spread over
-// orders of magnitude; "uniform" or empty against the uniform, as the
-// page does by default. Named for the classical model's background
-// measure.
-const backgroundColumn = "background"
+// QuantileColumn names probability p's column: q and p's decimals, at
+// least two (q05 for 0.05, q50 for 0.5, q975 for 0.975), every decimal of
+// the shortest decimal that reads back as p, so that Read reads the
+// column as p itself (1/3 is q3333333333333333). p must lie strictly
+// between 0 and 1.
+func QuantileColumn(p float64) (string, error) {
+	s := strconv.FormatFloat(p, 'f', -1, 64)
+	digits, ok := strings.CutPrefix(s, "0.")
+	if !ok || digits == "" {
+		return "", fmt.Errorf("calibsheet: probability %v has no quantile column", p)
+	}
+	if len(digits) == 1 {
+		digits += "0" // 0.5 is q50
+	}
+	return "q" + digits, nil
+}
 
 // Rules of calibration sheets.
 const (
@@ -82,20 +113,20 @@ func readHeader(header []string) ([]string, []float64, error) {
 		cols[i] = strings.ToLower(strings.TrimSpace(strings.TrimPrefix(h, "\ufeff")))
 	}
 	for i, want := range leadingColumns {
-		if i >= len(cols) || (cols[i] != want && !(want == "realization" && cols[i] == "realisation")) {
+		if i >= len(cols) || (cols[i] != want && !(want == ColumnRealisation && cols[i] == "realisation")) {
 			return nil, nil, &elicit.InputError{Field: fmt.Sprintf("header column %d", i+1), Rule: RuleHeader,
 				Detail: fmt.Sprintf("want %q", want)}
 		}
 	}
 	rest := cols[len(leadingColumns):]
 	switch {
-	case len(rest) >= 2 && rest[0] == boundColumns[0] && rest[1] == boundColumns[1]:
+	case len(rest) >= 2 && rest[0] == ColumnLower && rest[1] == ColumnUpper:
 		rest = rest[2:]
-	case len(rest) >= 1 && (rest[0] == boundColumns[0] || rest[0] == boundColumns[1]):
+	case len(rest) >= 1 && (rest[0] == ColumnLower || rest[0] == ColumnUpper):
 		return nil, nil, &elicit.InputError{Field: "header column " + strconv.Quote(rest[0]), Rule: RuleHeader,
 			Detail: "the bound columns are lower,upper, both, in that order, right after realization"}
 	}
-	if len(rest) >= 1 && rest[0] == backgroundColumn {
+	if len(rest) >= 1 && rest[0] == ColumnBackground {
 		rest = rest[1:]
 	}
 	var probs []float64

@@ -137,8 +137,8 @@ func newRows(cols []string, probs []float64) *rows {
 	firstQ := len(cols) - len(probs)
 	return &rows{
 		cols: cols, probs: probs, firstQ: firstQ,
-		hasBackground: cols[firstQ-1] == backgroundColumn,
-		hasBounds:     firstQ-len(leadingColumns) >= len(boundColumns),
+		hasBackground: cols[firstQ-1] == ColumnBackground,
+		hasBounds:     firstQ-len(leadingColumns) >= 2, // lower, upper
 		sheet: &Sheet{Realisations: map[string]float64{}, Bounds: map[string][2]float64{}, LogScale: map[string]bool{},
 			QuantileColumns: cols[firstQ:]},
 		realRow: map[string]int{}, boundsRow: map[string]int{}, backgroundRow: map[string]int{},
@@ -187,10 +187,10 @@ func (rs *rows) read(line int, rec []string) (assessmentRow, error) {
 	// control characters (an ESC sequence, NUL) and broken UTF-8 out.
 	a := elicit.SeedAssessment{Probs: rs.probs, Quantiles: make([]float64, len(rs.probs))}
 	var err error
-	if a.Expert, err = input.Text(field("expert"), cell(0), input.MaxShortText, true); err != nil {
+	if a.Expert, err = input.Text(field(ColumnExpert), cell(0), input.MaxShortText, true); err != nil {
 		return ar, err
 	}
-	if a.Question, err = input.Text(field("question"), cell(1), input.MaxShortText, true); err != nil {
+	if a.Question, err = input.Text(field(ColumnQuestion), cell(1), input.MaxShortText, true); err != nil {
 		return ar, err
 	}
 	realCol := rs.cols[2] // realization or realisation, as the header spells it
@@ -238,7 +238,7 @@ func (rs *rows) add(line int, ar assessmentRow) error {
 	s, q := rs.sheet, ar.a.Question
 	if rs.hasBackground {
 		if first, ok := rs.backgroundRow[q]; ok && s.LogScale[q] != ar.logScale {
-			return &elicit.InputError{Field: field(backgroundColumn), Rule: RuleSameBackground,
+			return &elicit.InputError{Field: field(ColumnBackground), Rule: RuleSameBackground,
 				Detail: fmt.Sprintf("%s here, %s on row %d", backgroundWord(ar.logScale), backgroundWord(s.LogScale[q]), first)}
 		} else if !ok {
 			rs.backgroundRow[q] = line
@@ -249,7 +249,7 @@ func (rs *rows) add(line int, ar assessmentRow) error {
 	}
 	key := [2]string{ar.a.Expert, q}
 	if first, dup := rs.seen[key]; dup {
-		return &elicit.InputError{Field: field("expert, question"), Rule: elicit.RuleDuplicate,
+		return &elicit.InputError{Field: field(ColumnExpert + ", " + ColumnQuestion), Rule: elicit.RuleDuplicate,
 			Detail: fmt.Sprintf("expert %q and question %q already on row %d", ar.a.Expert, q, first)}
 	}
 	rs.seen[key] = line
@@ -263,7 +263,7 @@ func (rs *rows) add(line int, ar assessmentRow) error {
 	if rs.hasBounds {
 		had, seenBefore := s.Bounds[q]
 		if first, ok := rs.boundsRow[q]; ok && (seenBefore != ar.bounded || had != ar.bounds) {
-			return &elicit.InputError{Field: field("lower, upper"), Rule: RuleSameBounds,
+			return &elicit.InputError{Field: field(ColumnLower + ", " + ColumnUpper), Rule: RuleSameBounds,
 				Detail: fmt.Sprintf("%s here, %s on row %d", boundsText(ar.bounds, ar.bounded), boundsText(had, seenBefore), first)}
 		} else if !ok {
 			rs.boundsRow[q] = line
@@ -282,17 +282,17 @@ func (rs *rows) add(line int, ar assessmentRow) error {
 // name the row and the column.
 func readBackground(field func(string) string, cell string, x float64, b [2]float64, bounded bool, qs []float64, qcols []string) (bool, error) {
 	switch strings.ToLower(cell) {
-	case "", "uniform":
+	case "", BackgroundUniform:
 		return false, nil
-	case "log-uniform":
+	case BackgroundLogUniform:
 	default:
-		return false, &elicit.InputError{Field: field(backgroundColumn), Rule: RuleBackgroundWord, Detail: fmt.Sprintf("got %q", input.Clip(cell, 40))}
+		return false, &elicit.InputError{Field: field(ColumnBackground), Rule: RuleBackgroundWord, Detail: fmt.Sprintf("got %q", input.Clip(cell, 40))}
 	}
 	if !(x > 0) {
-		return true, &elicit.InputError{Field: field("realization"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", x)}
+		return true, &elicit.InputError{Field: field(ColumnRealisation), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("got %v", x)}
 	}
 	if bounded && !(b[0] >= 0) {
-		return true, &elicit.InputError{Field: field("lower"), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("a lower bound below 0 (%v); 0 leaves the range uncut below", b[0])}
+		return true, &elicit.InputError{Field: field(ColumnLower), Rule: elicit.RuleLogScalePositive, Detail: fmt.Sprintf("a lower bound below 0 (%v); 0 leaves the range uncut below", b[0])}
 	}
 	for j, v := range qs {
 		if !(v > 0) {
@@ -305,9 +305,9 @@ func readBackground(field func(string) string, cell string, x float64, b [2]floa
 // backgroundWord names a background in a message.
 func backgroundWord(log bool) string {
 	if log {
-		return "log-uniform"
+		return BackgroundLogUniform
 	}
-	return "uniform"
+	return BackgroundUniform
 }
 
 // readBounds reads a row's lower and upper cells: both empty is a
@@ -319,11 +319,11 @@ func readBounds(field func(string) string, lo, hi string) ([2]float64, bool, err
 		return [2]float64{}, false, nil
 	}
 	if lo == "" || hi == "" {
-		return [2]float64{}, false, &elicit.InputError{Field: field("lower, upper"), Rule: RuleBoundsPair,
+		return [2]float64{}, false, &elicit.InputError{Field: field(ColumnLower + ", " + ColumnUpper), Rule: RuleBoundsPair,
 			Detail: fmt.Sprintf("lower %q, upper %q", lo, hi)}
 	}
 	var b [2]float64
-	for i, c := range [2]struct{ name, text string }{{"lower", lo}, {"upper", hi}} {
+	for i, c := range [2]struct{ name, text string }{{ColumnLower, lo}, {ColumnUpper, hi}} {
 		v, err := input.Number(field(c.name), c.text)
 		if err != nil {
 			return b, false, err
@@ -334,7 +334,7 @@ func readBounds(field func(string) string, lo, hi string) ([2]float64, bool, err
 		b[i] = v
 	}
 	if !(b[0] < b[1]) {
-		return b, false, &elicit.InputError{Field: field("upper"), Rule: elicit.RuleBoundsOrder,
+		return b, false, &elicit.InputError{Field: field(ColumnUpper), Rule: elicit.RuleBoundsOrder,
 			Detail: fmt.Sprintf("lower %v, upper %v", b[0], b[1])}
 	}
 	return b, true, nil

@@ -7,11 +7,13 @@ import (
 	"strconv"
 	"strings"
 
+	"github.com/parley-elicit/parley/elicit/calibsheet"
 	"github.com/parley-elicit/parley/elicit/workshop"
 )
 
-// WriteCalibrationCSV writes the answers a calibration page scores in the
-// form `parley calibrate --input` reads: a header
+// WriteCalibrationCSV writes the answers a calibration page scores as a
+// calibration sheet, the form `parley calibrate --input` reads
+// (calibsheet.Read, whose columns these are): a header
 // expert,question,realization,lower,upper and one qNN column per
 // probability, then one row per scored answer (set.Assessments, in its
 // order), with each question's true value and bounds, so that the command
@@ -24,16 +26,16 @@ import (
 // run as a formula are prefixed with an apostrophe, as in WriteCSV, and so
 // are names starting with #, which the command would read as comments.
 // When a scored question is on the log scale (workshop.Question.LogScale)
-// a column scale follows upper, log or uniform on each row, as the
-// command reads it.
+// a column background follows upper, log-uniform or uniform on each row.
 func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet, alpha *float64) error {
-	header := []string{"expert", "question", "realization", "lower", "upper"}
+	header := []string{calibsheet.ColumnExpert, calibsheet.ColumnQuestion, calibsheet.ColumnRealisation,
+		calibsheet.ColumnLower, calibsheet.ColumnUpper}
 	scaled := len(set.LogScale) > 0
 	if scaled {
-		header = append(header, "background")
+		header = append(header, calibsheet.ColumnBackground)
 	}
 	for _, p := range set.Probs {
-		c, err := quantileColumn(p)
+		c, err := calibsheet.QuantileColumn(p)
 		if err != nil {
 			return err
 		}
@@ -82,9 +84,9 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 		row := []string{name, "Q" + strconv.Itoa(q.Position)}
 		row = append(row, floats(set.Realisations[a.Question], bounds[0], bounds[1])...)
 		if scaled {
-			scale := "uniform"
+			scale := calibsheet.BackgroundUniform
 			if set.LogScale[a.Question] {
-				scale = "log-uniform"
+				scale = calibsheet.BackgroundLogUniform
 			}
 			row = append(row, scale)
 		}
@@ -95,20 +97,6 @@ func WriteCalibrationCSV(w io.Writer, title string, set workshop.CalibrationSet,
 	}
 	cw.Flush()
 	return cw.Error()
-}
-
-// quantileColumn names probability p's column as parley calibrate reads
-// it: qNN with the probability's decimals, q05 for 0.05, q975 for 0.975.
-func quantileColumn(p float64) (string, error) {
-	s := strconv.FormatFloat(p, 'f', -1, 64)
-	digits, ok := strings.CutPrefix(s, "0.")
-	if !ok || digits == "" {
-		return "", fmt.Errorf("record: probability %v has no quantile column", p)
-	}
-	if len(digits) == 1 {
-		digits += "0" // 0.5 is q50
-	}
-	return "q" + digits, nil
 }
 
 // expertColumn names each expert by key: the display name, or the name
