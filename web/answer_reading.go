@@ -40,6 +40,12 @@ func readAnswer(q workshop.Question, f *Form, sp speaker) (workshop.Answer, elic
 	before := len(f.Errors)
 	var a workshop.Answer
 	asPercent := q.IsProportion() && f.Value("unit") == unitPercent
+	if u := f.Value("unit"); u != "" && u != unitProportion && u != unitPercent {
+		// Only a form not of this page sends another: it was read as
+		// proportions without a word. (A page without the choice, on a
+		// question that is no proportion, sends none.)
+		f.set("", "Choose how you type your values, as proportions or as percentages, and send the answer again.")
+	}
 	typed, count := 0, 0
 	value := func(name string) float64 {
 		typedText, ambiguous := decimalComma(f.Value(name), possibleReading(q, name, asPercent))

@@ -866,3 +866,32 @@ func TestTheSmallestConfidenceIsNamed(t *testing.T) {
 		}
 	}
 }
+
+// A unit other than the page's two choices is refused, nothing saved,
+// with the form's own message: it was read as proportions without a word
+// (review, 2026-12-05). No unit at all is a page without the choice, and
+// the values are read as typed.
+func TestAnUnknownUnitIsRefused(t *testing.T) {
+	g := newExpertRig(t)
+	saved := func() int {
+		revs, err := g.db.Revisions(context.Background(), g.ws.ID)
+		if err != nil {
+			t.Fatal(err)
+		}
+		return len(revs)
+	}
+	form := func(unit string) url.Values {
+		return url.Values{"values[0]": {"0.02"}, "values[1]": {"0.06"}, "values[2]": {"0.15"}, "unit": {unit}}
+	}
+	for _, unit := range []string{"bogus", "Percent", strings.Repeat("p", 4001)} {
+		r, body := g.post(g.qpath(0, g.q)+"/save", form(unit))
+		if r.StatusCode != http.StatusUnprocessableEntity || !strings.Contains(body, "Choose how you type your values") || saved() != 0 {
+			t.Errorf("unit %.20q: %d, %d saved", unit, r.StatusCode, saved())
+		}
+	}
+	for i, unit := range []string{"", "proportion"} {
+		if r, _ := g.post(g.qpath(0, g.q)+"/save", form(unit)); r.StatusCode != http.StatusSeeOther || saved() != i+1 {
+			t.Errorf("unit %q: %d, %d saved", unit, r.StatusCode, saved())
+		}
+	}
+}
