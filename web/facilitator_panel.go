@@ -515,6 +515,10 @@ func (s *Server) withholdReason(w http.ResponseWriter, r *http.Request) {
 	if !f.OK() {
 		if msg := f.Error("withhold_reason"); msg != "" {
 			f.set("", "Withholding or showing a reason needs a reason of its own: "+msg+".")
+		} else if f.Error("action") != "" {
+			// Only a request not made by the page's buttons: the page
+			// said "correct the marked fields" with nothing marked.
+			f.set("", "Choose to withhold the reason or to show it again; this request asked for neither, and nothing changed.")
 		}
 		page := ""
 		if large {

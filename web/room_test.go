@@ -174,6 +174,12 @@ func TestReasonsInFeedbackAndWithheld(t *testing.T) {
 	if r, _ := h.post(withhold, url.Values{"action": {"withhold"}}); r.StatusCode != http.StatusUnprocessableEntity {
 		t.Fatalf("withholding without a reason: %d", r.StatusCode)
 	}
+	// An action the page's buttons do not send is refused saying so; it
+	// said "correct the marked fields" with nothing marked.
+	if r, body := h.post(withhold, url.Values{"action": {"hide"}, "withhold_reason": {"Names a person."}}); r.StatusCode != http.StatusUnprocessableEntity ||
+		!strings.Contains(body, "asked for neither, and nothing changed") {
+		t.Fatalf("an unknown action: %d", r.StatusCode)
+	}
 	if r, _ := h.post(withhold, url.Values{"action": {"withhold"}, "withhold_reason": {"Names a person."}}); r.StatusCode != http.StatusSeeOther {
 		t.Fatalf("withhold: %d", r.StatusCode)
 	}
