@@ -3,6 +3,7 @@ package elicit
 import (
 	"fmt"
 	"math"
+	"strconv"
 )
 
 // MinPairs and MaxPairs bound the number of (probability, value) pairs in
@@ -50,7 +51,7 @@ func (j Judgement) Validate() error {
 		return err
 	}
 	if len(j.Probs) != len(j.Values) {
-		return inputErr("values", RuleLengthMatch, "%d probabilities, %d values", len(j.Probs), len(j.Values))
+		return inputErr("values", RuleLengthMatch, "%s, %s", countedAs(strconv.Itoa(len(j.Probs)), "probability", "probabilities"), countedAs(strconv.Itoa(len(j.Values)), "value", "values"))
 	}
 	n := len(j.Probs)
 	if n < MinPairs || n > MaxPairs {

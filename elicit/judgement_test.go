@@ -113,3 +113,20 @@ func TestValuesAtTheStatedLimitsAreTaken(t *testing.T) {
 		checkRule(t, checkValues("values", []float64{prev, math.Nextafter(prev, 1)}, 0, 1, 0), "values[1]", RuleValuesTooClose)
 	}
 }
+
+// The counts of a length mismatch are written as counts: "1 probability,
+// 3 values", where it said "1 probabilities" (review, 2026-12-05).
+func TestLengthMismatchCountsInWords(t *testing.T) {
+	for _, c := range []struct {
+		j    Judgement
+		want string
+	}{
+		{Judgement{[]float64{0.5}, []float64{0.01, 0.04, 0.12}, 0, 1}, "1 probability, 3 values"},
+		{Judgement{[]float64{0.05, 0.5, 0.95}, []float64{0.04}, 0, 1}, "3 probabilities, 1 value"},
+	} {
+		var ie *InputError
+		if err := c.j.Validate(); !errors.As(err, &ie) || ie.Rule != RuleLengthMatch || ie.Detail != c.want {
+			t.Errorf("%v: %v; want %q", c.j, err, c.want)
+		}
+	}
+}

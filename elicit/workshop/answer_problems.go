@@ -45,7 +45,7 @@ func (q Question) Problems(a Answer) []*elicit.InputError {
 	switch q.Format {
 	case FormatQuantiles:
 		if len(a.Values) != len(q.Probs) {
-			add("values", elicit.RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+			add("values", elicit.RuleLengthMatch, "%d %s, %d %s", len(q.Probs), plural(len(q.Probs), "probability", "probabilities"), len(a.Values), plural(len(a.Values), "value", "values"))
 			return out
 		}
 		ok := make([]bool, len(a.Values))

@@ -198,7 +198,7 @@ func (q Question) Judgement(a Answer) (elicit.Judgement, error) {
 	switch q.Format {
 	case FormatQuantiles:
 		if len(a.Values) != len(q.Probs) {
-			return elicit.Judgement{}, inputErr("values", elicit.RuleLengthMatch, "%d probabilities, %d values", len(q.Probs), len(a.Values))
+			return elicit.Judgement{}, inputErr("values", elicit.RuleLengthMatch, "%d %s, %d %s", len(q.Probs), plural(len(q.Probs), "probability", "probabilities"), len(a.Values), plural(len(a.Values), "value", "values"))
 		}
 		j := elicit.Judgement{
 			Probs:  append([]float64(nil), q.Probs...),
