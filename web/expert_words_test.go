@@ -299,12 +299,10 @@ func TestHistoryInWords(t *testing.T) {
 	}
 }
 
-// The largest confidence the form names, 99.9999999998%, is taken by
-// every door that reads a confidence: the expert's form and the answer
-// sheet (its tails of 1e-12 were refused by 2.2e-17 of float64 rounding,
-// beside the message "Must be at most 99.9999999998%"); the next one up
-// is refused by both with that message.
-func TestTheLargestConfidenceIsTaken(t *testing.T) {
+// confidenceDoors are the two doors that read a four-value confidence:
+// the expert's form on the rig's interval question (the fields it posts
+// with confidence c) and the answer sheet (its error for a row of c).
+func confidenceDoors(t *testing.T) (*expertRig, func(c string) url.Values, func(c string) error) {
 	g := newExpertRig(t)
 	form := func(c string) url.Values {
 		return url.Values{"lowest": {"0.02"}, "highest": {"0.6"}, "best": {"0.2"}, "confidence": {c}}
@@ -316,6 +314,16 @@ func TestTheLargestConfidenceIsTaken(t *testing.T) {
 			strconv.FormatInt(g.experts[0].ID, 10)+",id:"+strconv.FormatInt(g.qi.ID, 10)+",0.02,0.6,0.2,"+c+"\n"), qs, es)
 		return err
 	}
+	return g, form, sheet
+}
+
+// The largest confidence the form names, 99.9999999998%, is taken by
+// every door that reads a confidence: the expert's form and the answer
+// sheet (its tails of 1e-12 were refused by 2.2e-17 of float64 rounding,
+// beside the message "Must be at most 99.9999999998%"); the next one up
+// is refused by both with that message.
+func TestTheLargestConfidenceIsTaken(t *testing.T) {
+	g, form, sheet := confidenceDoors(t)
 	for _, c := range []string{"99.9999999998", "99.9999999998%"} {
 		r, body := g.post(g.qpath(0, g.qi)+"/preview", form(c))
 		if msg := shownError(body, "f-confidence"); r.StatusCode != http.StatusOK || msg != "" {
@@ -834,17 +842,7 @@ func TestChipsWarningsSayToMoveChips(t *testing.T) {
 // below it both say what the least is. A confidence of 1e-13% had been
 // taken by the form as a range holding no chance at all.
 func TestTheSmallestConfidenceIsNamed(t *testing.T) {
-	g := newExpertRig(t)
-	form := func(c string) url.Values {
-		return url.Values{"lowest": {"0.02"}, "highest": {"0.6"}, "best": {"0.2"}, "confidence": {c}}
-	}
-	qs := []workshop.Question{g.qi}
-	es := []workshop.Expert{g.experts[0]}
-	sheet := func(c string) error {
-		_, err := answersheet.Read(strings.NewReader("expert,question,lowest,highest,best,confidence\nid:"+
-			strconv.FormatInt(g.experts[0].ID, 10)+",id:"+strconv.FormatInt(g.qi.ID, 10)+",0.02,0.6,0.2,"+c+"\n"), qs, es)
-		return err
-	}
+	g, form, sheet := confidenceDoors(t)
 	var ie *elicit.InputError
 	// Typed below 1 without its sign, a confidence is read as a fraction
 	// typed by mistake ("Type the confidence as a percentage"); with its
