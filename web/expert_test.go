@@ -860,8 +860,8 @@ func regexpFind(body, re string) string {
 // that counts of curves and points read each picture once.
 func wideOnly(body string) string {
 	body = regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-compact".*?</svg>`).ReplaceAllString(body, "")
-	// The room's tall drawing (chart.PanelView.Tall) is drawn wide too.
-	return regexp.MustCompile(`(?s)<svg class="chart-svg chart-wide"[^>]* aria-labelledby="[^"]*-tall-title .*?</svg>`).ReplaceAllString(body, "")
+	// The room's tall drawings (chart.PanelView.Tall) are drawn wide too.
+	return regexp.MustCompile(`(?s)<svg class="chart-svg chart-wide chart-tall(er)?".*?</svg>`).ReplaceAllString(body, "")
 }
 
 // An outer value the curve cannot reach is pointed out to the expert in

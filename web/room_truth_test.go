@@ -51,9 +51,9 @@ func TestRoomAndPanelDrawTheTrueValueOnlyOnceRevealed(t *testing.T) {
 		if pic == "" {
 			t.Fatalf("the %s draws no picture of the curves after the reveal", name)
 		}
-		// The room's picture carries a third drawing, for a 4:3
-		// projector (chart.PanelView.Tall).
-		layouts := map[string]int{"room": 3, "panel": 2}[name]
+		// The room's picture carries two drawings more, for a 4:3 and a
+		// 5:4 projector (chart.PanelView.Tall).
+		layouts := map[string]int{"room": 4, "panel": 2}[name]
 		if n := strings.Count(pic, `class="chart-truth"`); n != layouts {
 			t.Errorf("the %s's picture draws the true value in %d layouts, want all %d", name, n, layouts)
 		}

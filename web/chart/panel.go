@@ -51,13 +51,18 @@ type PanelView struct {
 	// leaves the marks to the page, which names them in its own type
 	// beside samples drawn as the marks are (MarkSample).
 	Marked bool
-	// Tall adds to the room's picture (Room) a third drawing, the wide one
-	// with plots a third taller (roomTall), for a projector no wider than
-	// 3:2 (room.css shows it there in place of the wide one). On a 4:3
-	// projector the picture's width binds: the wide drawing, as tall as
-	// its column's width draws it, left some 90 px blank under the notes
-	// at 1024×768, and the median strip beside it is as wide as it can be.
+	// Tall adds to the room's picture (Room) its tall drawings, the wide
+	// one with taller plots, drawn to the shapes of roomTallShapes, for a
+	// picture's column taller for its width than the wide drawing (a 4:3
+	// or 5:4 projector; room.css shows the one that fits there in place of
+	// the wide one). There the picture's width binds: the wide drawing, as
+	// tall as its column's width draws it, left some 90 px blank under the
+	// notes at 1024×768 and some 200 px at 1280×1024.
 	Tall bool
+	// below is the height a picture draws under this one's drawing, in
+	// its units (a large panel's strip, SpreadView), which a tall
+	// drawing's shape counts.
+	below float64
 }
 
 // marksGeom is the marked curve's median and 90% interval as a Panel
@@ -195,7 +200,7 @@ func truthWords(value string) string {
 
 type panelModel struct {
 	ID       string
-	Drawings []panelDrawing // wide, then compact, then the room's tall one (PanelView.Tall)
+	Drawings []panelDrawing // wide, then compact, then the room's tall ones (PanelView.Tall)
 	Title    string
 	Desc     string
 	Legend   []legendGeom // the wide drawing's, for the table
@@ -264,18 +269,33 @@ func roomWide(l layout) layout {
 	return l
 }
 
-// roomTallPlots is how much taller roomTall draws the plots: on a
-// 1024×768 projector under the invented demo's wording of four lines the
-// picture's column is 616 px wide and leaves 403 px for the picture, a
-// viewBox 538 units tall at the wide drawing's width, where the wide
-// drawing takes 430; a shorter wording leaves more, a longer one less,
-// and a drawing taller than its place shrinks to it (style.css).
-const roomTallPlots = 1.3
+// roomTallShapes are the shapes, width over height, the room's tall
+// drawings are drawn to (PanelView.Tall), each with a class of its own:
+// room.css shows the tallest whose shape the picture's column, once its
+// notes are under it, holds without shrinking it by more than a twentieth,
+// so that the picture takes the column's height on a projector as tall
+// for its width as 4:3 (1024×768) or 5:4 (1280×1024) and under a
+// wording of any length. The wide drawing's plots grow to the shape, a
+// taller one keeps its width. The first is the shape the invented demo's
+// picture needed at 1024×768 (its wide drawing's plots 1.3 times as tall,
+// 821.76 by 530 units); the second what it needed at 1280×1024, where the
+// first left some 200 px blank under its notes (a column of 770 by 756 px
+// that leaves the picture 700 px under two lines of notes).
+var roomTallShapes = [...]struct {
+	Aspect float64
+	Class  string
+}{{1.55, "chart-tall"}, {1.1, "chart-taller"}}
 
-// roomTall is the room's layout l for a 4:3 projector (PanelView.Tall):
-// its plots roomTallPlots times as tall, shared as their heights are.
-func roomTall(l layout) layout {
-	l.DensityH, l.CDFH = math.Round(l.DensityH*roomTallPlots), math.Round(l.CDFH*roomTallPlots)
+// roomTallLeast is the least growth, in units, worth a tall drawing: a
+// picture already about as tall as a shape (a large panel's, whose strip
+// of many rows stands under its curves) draws no drawing for it.
+const roomTallLeast = 24
+
+// roomTall is the room's wide layout l (roomWide) with its plots grown by
+// grow units, shared as their heights are.
+func roomTall(l layout, grow float64) layout {
+	dens := math.Round(grow * l.DensityH / (l.DensityH + l.CDFH))
+	l.DensityH, l.CDFH = l.DensityH+dens, l.CDFH+math.Round(grow)-dens
 	return l
 }
 
@@ -294,56 +314,33 @@ func newPanelModel(v PanelView) panelModel {
 		m.Invalid = "No curves to draw yet."
 		return m
 	}
-	drawn := append([]layout(nil), layouts[:]...)
-	if v.Room && v.Tall {
-		drawn = append(drawn, wideLayout)
+	var wideIn layout // the wide drawing's layout as drawn from
+	for i, lay := range layouts {
+		if v.Room && lay.Name == wideLayout.Name && v.truth() == nil {
+			lay = roomWide(lay)
+		}
+		id := m.ID
+		if i > 0 {
+			id += "-" + lay.Name
+		}
+		if i == 0 {
+			wideIn = lay
+		}
+		m.Drawings = append(m.Drawings, v.drawing(lay, id, curves))
 	}
-	for i, lay := range drawn {
-		if v.Room {
-			lay.TickPx = roomTickPx
-			if lay.Name == wideLayout.Name && v.truth() == nil {
-				lay = roomWide(lay)
+	if v.Room && v.Tall {
+		// Each shape's height for the wide drawing's width, less what the
+		// picture draws under the plots' drawing (a large panel's strip).
+		wide := m.Drawings[0].Twin
+		for _, s := range roomTallShapes {
+			grow := wide.Layout.width()/s.Aspect - wide.Height - v.below
+			if grow < roomTallLeast {
+				continue
 			}
+			d := v.drawing(roomTall(wideIn, grow), m.ID+"-"+strings.TrimPrefix(s.Class, "chart-"), curves)
+			d.Twin.Shape = s.Class
+			m.Drawings = append(m.Drawings, d)
 		}
-		if i >= len(layouts) {
-			lay = roomTall(lay)
-		}
-		d := panelDrawing{ID: m.ID, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
-		switch {
-		case i >= len(layouts):
-			d.ID += "-tall"
-		case i > 0:
-			d.ID += "-" + lay.Name
-		}
-		if t := v.truth(); t != nil {
-			d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
-		}
-		// The marks are named in the legend, except in the room, whose
-		// page names them beside the picture in its own type (the
-		// picture's legend read at 11 px on a 1024×768 projector).
-		var marks []string
-		if v.Marked && !v.Room {
-			med, iv := markWords(d.Twin.percentiles[0], v.values)
-			marks = []string{med, iv}
-		}
-		var slots []legendSlot
-		switch {
-		case v.Room && lay.Name == wideLayout.Name:
-			d.Twin.withoutNotes()
-			d.Legend, slots = sideLegend(&d.Twin, curves, marks, v.values)
-		case v.Room:
-			d.Twin.withoutNotes()
-			d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
-		default:
-			d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
-		}
-		if v.Marked {
-			d.Marks = newMarks(d.Twin, marks, slots)
-		}
-		if y := d.top(v.Room); y > 0 {
-			d.Twin.ViewBox = "0 " + coord(y) + " " + coord(lay.width()) + " " + coord(d.Twin.Height-y)
-		}
-		m.Drawings = append(m.Drawings, d)
 	}
 	g := m.Drawings[0].Twin
 	m.Legend = m.Drawings[0].Legend
@@ -392,6 +389,43 @@ func newPanelModel(v PanelView) panelModel {
 	}
 	m.Desc = strings.TrimSpace(b.String())
 	return m
+}
+
+// drawing is one drawing of v's curves in layout lay, with its id.
+func (v PanelView) drawing(lay layout, id string, curves []Curve) panelDrawing {
+	if v.Room {
+		lay.TickPx = roomTickPx
+	}
+	d := panelDrawing{ID: id, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
+	if t := v.truth(); t != nil {
+		d.Truth = panelTruth(d.Twin, *t, "true value "+v.value(*t))
+	}
+	// The marks are named in the legend, except in the room, whose
+	// page names them beside the picture in its own type (the
+	// picture's legend read at 11 px on a 1024×768 projector).
+	var marks []string
+	if v.Marked && !v.Room {
+		med, iv := markWords(d.Twin.percentiles[0], v.values)
+		marks = []string{med, iv}
+	}
+	var slots []legendSlot
+	switch {
+	case v.Room && lay.Name == wideLayout.Name:
+		d.Twin.withoutNotes()
+		d.Legend, slots = sideLegend(&d.Twin, curves, marks, v.values)
+	case v.Room:
+		d.Twin.withoutNotes()
+		d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
+	default:
+		d.Legend, slots = panelLegend(&d.Twin, curves, marks, v.values)
+	}
+	if v.Marked {
+		d.Marks = newMarks(d.Twin, marks, slots)
+	}
+	if y := d.top(v.Room); y > 0 {
+		d.Twin.ViewBox = "0 " + coord(y) + " " + coord(lay.width()) + " " + coord(d.Twin.Height-y)
+	}
+	return d
 }
 
 // asBeta is the one Beta a curve is: a Beta's own, or a mixture's whose

@@ -8,12 +8,14 @@ import (
 	"testing"
 )
 
-// TestRoomTallDrawing: on a 4:3 projector the room's picture is as tall
-// as its column's width draws it, and the wide drawing left some 90 px
-// blank under the notes at 1024×768. A room picture asked Tall carries a
-// third drawing, after the wide and the compact ones and drawn wide (the
-// order room.css's selectors rely on), whose plots are roomTallPlots
-// times as tall at the same width; other pictures carry two.
+// TestRoomTallDrawing: on a 4:3 or 5:4 projector the room's picture is as
+// tall as its column's width draws it, and the wide drawing left some
+// 90 px blank under the notes at 1024×768 and some 200 px at 1280×1024. A
+// room picture asked Tall carries its tall drawings after the wide and
+// the compact ones, drawn wide at the wide one's width, each to its shape
+// (roomTallShapes) and with the shape's class, which room.css's
+// container queries name; their plots take the growth, shared as their
+// heights are. Other pictures carry two.
 func TestRoomTallDrawing(t *testing.T) {
 	v := PanelView{ID: "p", Quantity: "first-year failure share", Units: "proportion of units", Lower: 0, Upper: 1, Curves: roomCurves(), Tall: true}
 	if n := len(newPanelModel(v).Drawings); n != 2 {
@@ -21,39 +23,50 @@ func TestRoomTallDrawing(t *testing.T) {
 	}
 	v.Room = true
 	m := newPanelModel(v)
-	if len(m.Drawings) != 3 {
-		t.Fatalf("the room's picture asked Tall carries %d drawings, want 3", len(m.Drawings))
+	if len(m.Drawings) != 2+len(roomTallShapes) {
+		t.Fatalf("the room's picture asked Tall carries %d drawings, want %d", len(m.Drawings), 2+len(roomTallShapes))
 	}
-	wide, tall := m.Drawings[0], m.Drawings[2]
-	if tall.ID != "p-tall" || tall.Twin.Layout.Name != wideLayout.Name {
-		t.Errorf("the third drawing is %q drawn %q, want p-tall drawn wide", tall.ID, tall.Twin.Layout.Name)
-	}
-	wl, tl := wide.Twin.Layout, tall.Twin.Layout
-	if tl.width() != wl.width() {
-		t.Errorf("the tall drawing is %g units wide, the wide one %g", tl.width(), wl.width())
-	}
-	for _, p := range []struct {
-		name       string
-		wide, tall float64
-	}{{"density plot", wl.DensityH, tl.DensityH}, {"cumulative plot", wl.CDFH, tl.CDFH}} {
-		if math.Abs(p.tall-roomTallPlots*p.wide) > 1 {
-			t.Errorf("the tall drawing's %s is %g units tall, the wide one's %g: want %g times", p.name, p.tall, p.wide, roomTallPlots)
+	wide := m.Drawings[0]
+	wl := wide.Twin.Layout
+	for i, s := range roomTallShapes {
+		tall := m.Drawings[2+i]
+		tl := tall.Twin.Layout
+		if tall.Twin.Shape != s.Class || tl.Name != wideLayout.Name {
+			t.Errorf("drawing %d is of shape %q drawn %q, want %q drawn wide", 2+i, tall.Twin.Shape, tl.Name, s.Class)
 		}
-	}
-	grow := tl.DensityH + tl.CDFH - wl.DensityH - wl.CDFH
-	if d := tall.Twin.Height - wide.Twin.Height; math.Abs(d-grow) > 0.5 {
-		t.Errorf("the tall drawing is %g units taller than the wide one, want its plots' %g", d, grow)
+		if tl.width() != wl.width() {
+			t.Errorf("the %s drawing is %g units wide, the wide one %g", s.Class, tl.width(), wl.width())
+		}
+		// The shape, to within a unit of height (the plots' heights are
+		// rounded to units).
+		if want := tl.width() / s.Aspect; math.Abs(tall.Twin.Height-want) > 1 {
+			t.Errorf("the %s drawing is %g units tall, want %g for its shape %g", s.Class, tall.Twin.Height, want, s.Aspect)
+		}
+		grow := tl.DensityH + tl.CDFH - wl.DensityH - wl.CDFH
+		if d := tall.Twin.Height - wide.Twin.Height; math.Abs(d-grow) > 0.5 {
+			t.Errorf("the %s drawing is %g units taller than the wide one, want its plots' %g", s.Class, d, grow)
+		}
+		if r := tl.DensityH / tl.CDFH; math.Abs(r-wl.DensityH/wl.CDFH) > 0.02 {
+			t.Errorf("the %s drawing's plots stand %g to one, the wide one's %g", s.Class, r, wl.DensityH/wl.CDFH)
+		}
 	}
 	var b bytes.Buffer
 	if err := Panel(v).Render(context.Background(), &b); err != nil {
 		t.Fatal(err)
 	}
 	var order []string
-	for _, c := range regexp.MustCompile(`<svg class="chart-svg chart-(\w+)"`).FindAllStringSubmatch(b.String(), -1) {
+	for _, c := range regexp.MustCompile(`<svg class="chart-svg ([\w -]+)"`).FindAllStringSubmatch(b.String(), -1) {
 		order = append(order, c[1])
 	}
-	if len(order) != 3 || order[0] != "wide" || order[1] != "compact" || order[2] != "wide" {
-		t.Errorf("the room's picture draws %v, want [wide compact wide]", order)
+	want := []string{"chart-wide", "chart-compact", "chart-wide chart-tall", "chart-wide chart-taller"}
+	if len(order) != len(want) {
+		t.Fatalf("the room's picture draws %q, want %q", order, want)
+	}
+	for i := range want {
+		if order[i] != want[i] {
+			t.Errorf("the room's picture draws %q, want %q", order, want)
+			break
+		}
 	}
 	v.Tall = false
 	if n := len(newPanelModel(v).Drawings); n != 2 {
