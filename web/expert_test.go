@@ -861,7 +861,7 @@ func regexpFind(body, re string) string {
 func wideOnly(body string) string {
 	body = regexp.MustCompile(`(?s)<svg class="chart-svg[^"]* chart-compact".*?</svg>`).ReplaceAllString(body, "")
 	// The room's tall drawings (chart.PanelView.Tall) are drawn wide too.
-	return regexp.MustCompile(`(?s)<svg class="chart-svg chart-wide chart-tall(er)?".*?</svg>`).ReplaceAllString(body, "")
+	return regexp.MustCompile(`(?s)<svg class="chart-svg chart-wide chart-tall[^"]*".*?</svg>`).ReplaceAllString(body, "")
 }
 
 // An outer value the curve cannot reach is pointed out to the expert in

@@ -320,7 +320,7 @@ func (s *Server) fillRoom(r *http.Request, ws workshop.Workshop, q workshop.Ques
 		if fb.poolErr == nil {
 			pc = append(pc, poolCurve(fb.pool))
 		}
-		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth, Room: true}
+		v.Spread = &chart.SpreadView{ID: id, Quantity: q.Quantity, Units: q.Units, Lower: q.Lower, Upper: q.Upper, Curves: pc, Others: dists, Truth: md.Truth, Room: true, Tall: true}
 		v.ChartNotes = chart.SpreadNotes(*v.Spread)
 	} else {
 		if fb.poolErr == nil {

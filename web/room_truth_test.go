@@ -51,9 +51,9 @@ func TestRoomAndPanelDrawTheTrueValueOnlyOnceRevealed(t *testing.T) {
 		if pic == "" {
 			t.Fatalf("the %s draws no picture of the curves after the reveal", name)
 		}
-		// The room's picture carries two drawings more, for a 4:3 and a
-		// 5:4 projector (chart.PanelView.Tall).
-		layouts := map[string]int{"room": 4, "panel": 2}[name]
+		// The room's picture carries its tall drawings too, for a
+		// projector taller for its width (chart.PanelView.Tall).
+		layouts := map[string]int{"room": 7, "panel": 2}[name]
 		if n := strings.Count(pic, `class="chart-truth"`); n != layouts {
 			t.Errorf("the %s's picture draws the true value in %d layouts, want all %d", name, n, layouts)
 		}
@@ -117,11 +117,17 @@ func TestLargePanelDrawsTheTrueValueOnlyOnceRevealed(t *testing.T) {
 		if pic == "" {
 			t.Fatalf("the %s draws no picture of a large panel after the reveal", name)
 		}
-		// Two pictures (the curves, the strip) in two layouts each.
-		if n := strings.Count(pic, `class="truth-line"`); n != 4 {
-			t.Errorf("the %s's picture draws %d lines of the true value, want 4 (the curves and the strip, in both layouts)", name, n)
+		// Two pictures (the curves, the strip) in two layouts each, and
+		// in the room in each of its tall drawings too
+		// (chart.SpreadView.Tall).
+		layouts := 2
+		if name == "room" {
+			layouts += strings.Count(pic, `chart-tall `)
 		}
-		if n := strings.Count(pic, label); n != 2 {
+		if n := strings.Count(pic, `class="truth-line"`); n != 2*layouts {
+			t.Errorf("the %s's picture draws %d lines of the true value, want %d (the curves and the strip, in all %d layouts)", name, n, 2*layouts, layouts)
+		}
+		if n := strings.Count(pic, label); n != layouts {
 			t.Errorf("the %s's picture labels the true value %d times, want once per layout", name, n)
 		}
 		if n := strings.Count(pic, words); n < 2 {

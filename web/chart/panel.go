@@ -3,6 +3,7 @@ package chart
 import (
 	"fmt"
 	"math"
+	"strconv"
 	"strings"
 
 	"github.com/a-h/templ"
@@ -270,21 +271,20 @@ func roomWide(l layout) layout {
 }
 
 // roomTallShapes are the shapes, width over height, the room's tall
-// drawings are drawn to (PanelView.Tall), each with a class of its own:
-// room.css shows the tallest whose shape the picture's column, once its
-// notes are under it, holds without shrinking it by more than a twentieth,
-// so that the picture takes the column's height on a projector as tall
-// for its width as 4:3 (1024×768) or 5:4 (1280×1024) and under a
-// wording of any length. The wide drawing's plots grow to the shape, a
-// taller one keeps its width. The first is the shape the invented demo's
-// picture needed at 1024×768 (its wide drawing's plots 1.3 times as tall,
-// 821.76 by 530 units); the second what it needed at 1280×1024, where the
-// first left some 200 px blank under its notes (a column of 770 by 756 px
-// that leaves the picture 700 px under two lines of notes).
-var roomTallShapes = [...]struct {
-	Aspect float64
-	Class  string
-}{{1.55, "chart-tall"}, {1.1, "chart-taller"}}
+// drawings are drawn to (PanelView.Tall), from the least tall, each with
+// a class of its own ("chart-tall-" and its place, 1 to 5): room.css
+// shows the tallest whose shape the picture's column holds with its notes
+// under it, the picture shrunk by at most a twentieth, so that the
+// picture takes the column's height on a projector taller for its width
+// than 16:9 (4:3, 5:4, 16:10) under a header of any length. The first is
+// the shape the invented demo's picture needed at 1024×768 (its wide
+// drawing's plots 1.3 times as tall, 821.76 by 530 units); the fourth
+// what it needed at 1280×1024, where the first left some 200 px blank
+// under its notes; a large panel's picture, whose header is shorter,
+// needed about the third at 1024×768 and the fifth at 1280×1024. Each
+// is 1.12 times as tall as the one before, so the column is left at most
+// about a ninth of the picture's height blank.
+var roomTallShapes = [...]float64{1.55, 1.38, 1.235, 1.1, 0.985}
 
 // roomTallLeast is the least growth, in units, worth a tall drawing: a
 // picture already about as tall as a shape (a large panel's, whose strip
@@ -332,13 +332,14 @@ func newPanelModel(v PanelView) panelModel {
 		// Each shape's height for the wide drawing's width, less what the
 		// picture draws under the plots' drawing (a large panel's strip).
 		wide := m.Drawings[0].Twin
-		for _, s := range roomTallShapes {
-			grow := wide.Layout.width()/s.Aspect - wide.Height - v.below
+		for i, aspect := range roomTallShapes {
+			grow := wide.Layout.width()/aspect - wide.Height - v.below
 			if grow < roomTallLeast {
 				continue
 			}
-			d := v.drawing(roomTall(wideIn, grow), m.ID+"-"+strings.TrimPrefix(s.Class, "chart-"), curves)
-			d.Twin.Shape = s.Class
+			shape := "tall-" + strconv.Itoa(i+1)
+			d := v.drawing(roomTall(wideIn, grow), m.ID+"-"+shape, curves)
+			d.Twin.Shape = "chart-" + shape
 			m.Drawings = append(m.Drawings, d)
 		}
 	}

@@ -36,6 +36,10 @@ type SpreadView struct {
 	// Room lays the curves out for the room view (PanelView's Room); the
 	// page writes their notes (SpreadNotes).
 	Room bool
+	// Tall adds to the room's picture its tall drawings (PanelView's
+	// Tall): the curves' plots grown so that the curves and the strip
+	// under them together take each of roomTallShapes.
+	Tall bool
 	// ForExpert writes the picture in the words of the expert's own fit,
 	// as PanelView's ForExpert does, and says each line's ends and dot as
 	// the fit names them: the curve's 5% and 95% points and its middle.
@@ -99,7 +103,7 @@ type spreadModel struct {
 	// or on an expert's page "value", as its rows say what they are.
 	ValueHeader string
 	Quartiles   []spreadQuartile
-	Joined      []spreadJoin // the room's pictures (SpreadView.Room), wide then compact
+	Joined      []spreadJoin // the room's pictures (SpreadView.Room), wide, compact, then the tall ones (SpreadView.Tall)
 }
 
 // Strip layout: each row is spreadRowH units high, so 200 experts make a
@@ -131,7 +135,6 @@ func newSpreadModel(v SpreadView) spreadModel {
 	if m.ID == "" {
 		m.ID = "spread"
 	}
-	m.Panel = newPanelModel(v.curvesView(m.ID + "-curves"))
 	type interval struct{ p5, p50, p95 float64 }
 	var iv []interval
 	for _, d := range v.Others {
@@ -146,16 +149,22 @@ func newSpreadModel(v SpreadView) spreadModel {
 			iv = append(iv, r)
 		}
 	}
+	cv := v.curvesView(m.ID + "-curves")
+	if v.Room && v.Tall && len(iv) > 0 {
+		cv.Tall, cv.below = true, stripHeight(spreadPad, len(iv), stripRowStep(len(iv), true))
+	}
+	m.Panel = newPanelModel(cv)
 	if len(iv) == 0 {
 		return m
 	}
 	sort.SliceStable(iv, func(i, j int) bool { return iv[i].p50 < iv[j].p50 })
+	at := func(k int) (float64, float64, float64) { return iv[k].p5, iv[k].p50, iv[k].p95 }
 	for i, lay := range layouts {
 		var curves *twinGeom
 		if m.Panel.Invalid == "" {
 			curves = &m.Panel.Drawings[i].Twin
 		}
-		st, ok := newStrip(lay, v, curves, len(iv), func(k int) (float64, float64, float64) { return iv[k].p5, iv[k].p50, iv[k].p95 })
+		st, ok := newStrip(lay, v, curves, len(iv), at)
 		if !ok {
 			return m
 		}
@@ -220,7 +229,15 @@ func newSpreadModel(v SpreadView) spreadModel {
 	}
 	if v.Room && m.Panel.Invalid == "" {
 		for i, d := range m.Panel.Drawings {
-			j := spreadJoin{Curves: d, Twin: d.Twin, Strip: m.Strips[i], Shift: coord(d.Twin.Height)}
+			var st spreadStrip
+			if i < len(m.Strips) {
+				st = m.Strips[i]
+			} else {
+				// A tall drawing's strip, under its curves (PanelView.Tall).
+				st, _ = newStrip(d.Twin.Layout, v, &d.Twin, len(iv), at)
+				st.ID = d.ID
+			}
+			j := spreadJoin{Curves: d, Twin: d.Twin, Strip: st, Shift: coord(d.Twin.Height)}
 			j.Twin.Height += j.Strip.Height
 			y := d.top(true)
 			j.Twin.ViewBox = "0 " + coord(y) + " " + coord(j.Twin.Layout.width()) + " " + coord(j.Twin.Height-y)
@@ -228,6 +245,12 @@ func newSpreadModel(v SpreadView) spreadModel {
 		}
 	}
 	return m
+}
+
+// stripHeight is the height of a strip of n rows step units apart under
+// top units of room: its frame, padded, and its tick labels under it.
+func stripHeight(top float64, n int, step float64) float64 {
+	return top + float64(n)*step + spreadPad + 26
 }
 
 // stripRowStep is the height of each of n rows of a strip: they share
@@ -295,7 +318,7 @@ func newStrip(lay layout, v SpreadView, curves *twinGeom, n int, at func(k int) 
 		st.Truth = truthMark(f, *truth, f.Top-4, f.bottom(), w, label)
 	}
 	st.XLabelY = coord(f.bottom() + 16)
-	st.Height = f.bottom() + 26
+	st.Height = stripHeight(top, n, step)
 	st.ViewBox = "0 0 " + coord(w) + " " + coord(st.Height)
 	return st, true
 }

@@ -119,8 +119,8 @@ type lineGeom struct {
 type twinGeom struct {
 	twinFrame
 	Layout layout
-	// Shape is a room's tall drawing's class (roomTallShapes), "" for
-	// any other drawing.
+	// Shape is a room's tall drawing's class for its shape
+	// (roomTallShapes), "" for any other drawing.
 	Shape       string
 	Lines       []lineGeom
 	ClippedBy   []string // labels of curves cut at the density axis's top
