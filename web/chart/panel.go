@@ -396,6 +396,9 @@ func newPanelModel(v PanelView) panelModel {
 func (v PanelView) drawing(lay layout, id string, curves []Curve) panelDrawing {
 	if v.Room {
 		lay.TickPx = roomTickPx
+		if lay.Name == compactLayout.Name {
+			lay.TickPx = roomPhoneTickPx
+		}
 	}
 	d := panelDrawing{ID: id, Twin: newTwinIn(lay, v.words(), v.Quantity, v.Units, v.Lower, v.Upper, curves, v.extra(), false, v.Percent)}
 	if t := v.truth(); t != nil {

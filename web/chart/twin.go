@@ -34,9 +34,10 @@ type layout struct {
 	// YTitleX is where the plots' upright titles stand, both at one x,
 	// unless labels level with either push them left (yTitleX).
 	YTitleX float64
-	// TickPx is the x tick labels' font size where a page's stylesheet
-	// draws them larger than the layout's own (tickLabelPx): the room
-	// view's 15px (roomTickPx). 0 is the layout's own.
+	// TickPx is the tick labels' font size (the x axis's, and the y
+	// axes' where they stand level with an upright title) where a page's
+	// stylesheet draws them larger than the layout's own (tickLabelPx,
+	// yTickPx): the room view's (roomTickPx). 0 is the layout's own.
 	TickPx float64
 }
 
@@ -48,10 +49,20 @@ func (l layout) tickPx() float64 {
 	return tickLabelPx(l.Name)
 }
 
-// roomTickPx is the x tick labels' font size in the room view
-// (style.css, .room-chart .chart-svg .tick-label): ticks spaced for 13px
-// labels could run into one another at 15px on the projector.
-const roomTickPx = 15
+// roomTickPx is the largest font size the room view draws its tick
+// labels in: 15px (style.css, .room-chart .chart-svg .tick-label), and
+// 19px on a projector up to 70rem wide (room.css), where the picture is
+// drawn at three quarters of its size and 15px read at 11 px on a
+// 1024×768 screen. The ticks are spaced and kept inside the picture for
+// it, and the plots' upright titles kept clear of it: ticks spaced for
+// 13px could run into one another at 15px.
+const roomTickPx = 19
+
+// roomPhoneTickPx is the room's tick labels' font size on its compact
+// drawing, shown on a phone only (chart.css), where style.css's 15px
+// stands: spaced for roomTickPx, its plots gave the labels beside them
+// room they do not take.
+const roomPhoneTickPx = 15
 
 // width is the layout's viewBox width.
 func (l layout) width() float64 { return l.Left + l.PlotW + l.Right }
@@ -287,8 +298,8 @@ func newTwinIn(lay layout, w twinWords, quantity, units string, lower, upper flo
 	// phone) take their room from the plots, as the study's picture does
 	// for its labels; the picture keeps its width. The room depends on the
 	// layout and top alone, which key the remembered frames and paths.
-	if need := yTitleRoom - min(yLabelsLeft(dens, densityTicks(top, w.Unnumbered), w.Upper, lay.Name),
-		yLabelsLeft(cumul, chanceTicks(), w.Lower, lay.Name)); need > 0 {
+	if need := yTitleRoom - min(yLabelsLeft(dens, densityTicks(top, w.Unnumbered), w.Upper, lay),
+		yLabelsLeft(cumul, chanceTicks(), w.Lower, lay)); need > 0 {
 		need = math.Ceil(need)
 		lay.Left += need
 		lay.PlotW -= need
@@ -443,8 +454,8 @@ func newTwinFrame(lay layout, k frameKey, dens, cumul frame) twinFrame {
 	dt, ct := densityTicks(top, k.unnumbered), chanceTicks()
 	// One x for both upright titles, clear of the labels level with
 	// either (newTwinIn leaves the room).
-	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, k.upperTitle, lay.Name)-yTitleGap-yDescent*yTitlePx,
-		yLabelsLeft(cumul, ct, k.lowerTitle, lay.Name)-yTitleGap-yDescent*yTitlePx)
+	tx := min(lay.YTitleX, yLabelsLeft(dens, dt, k.upperTitle, lay)-yTitleGap-yDescent*yTitlePx,
+		yLabelsLeft(cumul, ct, k.lowerTitle, lay)-yTitleGap-yDescent*yTitlePx)
 	g.Density = yAxes(dens, dt, k.upperTitle, "chart-density", tx)
 	g.Cumul = yAxes(cumul, ct, k.lowerTitle, "chart-cdf", tx)
 	g.XLabelY = coord(cumul.bottom() + 18)
@@ -661,8 +672,9 @@ func chanceTicks() []tick {
 }
 
 // The y axes' labels and title at the largest sizes a stylesheet draws
-// them: the room view's 15px on the wide drawing (static/style.css), a
-// phone's 14px tick labels on the compact (static/chart.css), and the
+// them: the room view's tick labels at up to roomTickPx (its layouts'
+// TickPx), 15px on the wide drawing elsewhere, a phone's 14px tick labels
+// on the compact (static/chart.css), and the
 // title's 15px in both, bold. An upright title's glyphs reach yAscent of
 // its size to the left of its baseline and yDescent to the right.
 const (
@@ -675,8 +687,11 @@ const (
 	yTitleRoom = 1 + (yAscent+yDescent)*yTitlePx + yTitleGap
 )
 
-func yTickPx(layout string) float64 {
-	if layout == compactLayout.Name {
+func yTickPx(l layout) float64 {
+	if l.TickPx > 0 {
+		return l.TickPx
+	}
+	if l.Name == compactLayout.Name {
 		return 14
 	}
 	return 15
@@ -686,8 +701,8 @@ func yTickPx(layout string) float64 {
 // level with its upright title (centred on the plot's height) begins:
 // f.Left when none does. A label is drawn 6 units left of the axis and
 // 4 below its tick.
-func yLabelsLeft(f frame, ts []tick, title, layout string) float64 {
-	px := yTickPx(layout)
+func yLabelsLeft(f frame, ts []tick, title string, lay layout) float64 {
+	px := yTickPx(lay)
 	half := labelEm(title, true) * yTitlePx / 2
 	mid := f.Top + f.Height/2
 	left := f.Left
