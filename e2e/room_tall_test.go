@@ -14,8 +14,9 @@ import (
 // (chart.PanelView.Tall, SpreadView.Tall) whose plots take that height,
 // the tallest whose shape the column holds: for the demo's room the first
 // at 4:3 and the fourth at 5:4, for a large panel's, under a shorter
-// header, the third and the fifth; 16:9 projectors and phones keep
-// theirs. At each size one picture is shown, the view fits the screen, no
+// header, the third and the fifth; the prior display's picture, laid out
+// with the rationale under it, left some 200 px at 1280×1024 and takes
+// the third; 16:9 projectors and phones keep theirs. At each size one picture is shown, the view fits the screen, no
 // part and no two words of a picture stand over one another, and at most
 // 30 px of the picture's column stay blank under the notes on 4:3 and 5:4
 // (on 16:9, a tenth of the screen's height, as pictureFills asks).
@@ -38,6 +39,10 @@ func TestRoomPictureFillsAFourByThreeProjector(t *testing.T) {
 		{"the demo's room", "demo", demoRoom, []size{{1024, 768, "chart-wide chart-tall chart-tall-1"}, {1280, 1024, "chart-wide chart-tall chart-tall-4"},
 			{1366, 768, "chart-wide"}, {1920, 1080, "chart-wide"}, {phoneWidth, phoneHeight, "chart-compact"}}},
 		{"a large panel's room", "large", largeRoom, []size{{1024, 768, "chart-wide chart-tall chart-tall-3"}, {1280, 1024, "chart-wide chart-tall chart-tall-5"},
+			{1366, 768, "chart-wide"}, {1920, 1080, "chart-wide"}, {phoneWidth, phoneHeight, "chart-compact"}}},
+		// Up to 70rem the prior display's picture row is as tall as the
+		// picture (style.css), which takes the width it is given.
+		{"the demo's prior display", "prior", demoRoom + "?show=prior", []size{{1024, 768, "chart-wide"}, {1280, 1024, "chart-wide chart-tall chart-tall-3"},
 			{1366, 768, "chart-wide"}, {1920, 1080, "chart-wide"}, {phoneWidth, phoneHeight, "chart-compact"}}},
 	} {
 		for _, sz := range room.sizes {

@@ -153,7 +153,7 @@ func (s *Server) fillRoomPrior(r *http.Request, ws workshop.Workshop, q workshop
 	p := &roomPrior{Median: ps[1], Low: ps[0], High: ps[2], Units: strings.TrimSpace(q.Units), Quantity: q.Quantity, Made: made}
 	p.Rationale, p.Cut = cutAtWord(strings.TrimSpace(a.Rationale), roomRationaleChars)
 	p.Panel = chart.PanelView{ID: "room-prior-q" + strconv.FormatInt(q.ID, 10), Quantity: q.Quantity, Units: q.Units, Lower: d.Lower, Upper: d.Upper,
-		Curves: []chart.Curve{{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: d}}, Room: true, Marked: true}
+		Curves: []chart.Curve{{Label: "Agreed prior", Role: chart.RoleAgreed, Dist: d}}, Room: true, Marked: true, Tall: true}
 	if q.Frozen() && q.TrueValue != nil {
 		t := *q.TrueValue
 		p.Panel.Truth = &t

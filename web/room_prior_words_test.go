@@ -78,12 +78,14 @@ func TestRoomPriorShowsItsRationaleAndMarks(t *testing.T) {
 		}
 		return out
 	}
+	// The wide and the compact drawings, and the tall ones for a
+	// projector taller for its width (chart.PanelView.Tall).
 	med, ends := x("mark-median"), x("mark-interval-end")
-	if len(med) != 2 || len(ends) != 4 {
-		t.Fatalf("the prior's picture draws %d median lines and %d interval ends, want 2 and 4 (wide and compact)", len(med), len(ends))
+	if n := 2 + strings.Count(body, `class="chart-svg chart-wide chart-tall `); len(med) != n || len(ends) != 2*n {
+		t.Fatalf("the prior's picture draws %d median lines and %d interval ends, want %d and %d (one in each drawing)", len(med), len(ends), n, 2*n)
 	}
 	lo, mid, hi := d.Quantile(0.05), d.Quantile(0.5), d.Quantile(0.95)
-	for k := range 2 {
+	for k := range med {
 		l, r := ends[2*k], ends[2*k+1]
 		if got, want := (med[k]-l)/(r-l), (mid-lo)/(hi-lo); !(l < med[k] && med[k] < r) || got < want-0.01 || got > want+0.01 {
 			t.Errorf("drawing %d: the median's line at %.1f between %.1f and %.1f, at %.3f of the interval, want %.3f", k, med[k], l, r, got, want)
