@@ -162,6 +162,18 @@ func TestPoolScaledBounds(t *testing.T) {
 	if got, want := sc.SD(), 20*unit.SD(); math.Abs(got-want) > 1e-12 {
 		t.Errorf("sd %v, want %v", got, want)
 	}
+	// Var(10 + 20U) = 20²·Var U (the variance of a linear map), and by hand
+	// for the unit pool: components Beta(2, 5) and Beta(6, 2), weights ¾
+	// and ¼, means 2/7 and 3/4, variances 10/392 and 12/576; the law of
+	// total variance gives Σ wᵢσᵢ² + Σ wᵢ(μᵢ − μ)² with μ = 3/14 + 3/16.
+	mu := 0.75*2/7 + 0.25*0.75
+	wantVar := 0.75*10/392.0 + 0.25*12/576.0 + 0.75*(2.0/7-mu)*(2.0/7-mu) + 0.25*(0.75-mu)*(0.75-mu)
+	if got := unit.Variance(); math.Abs(got-wantVar) > 1e-15 {
+		t.Errorf("unit variance %v, by hand %v", got, wantVar)
+	}
+	if got, want := sc.Variance(), 400*wantVar; math.Abs(got-want) > 1e-12 {
+		t.Errorf("variance on [10, 30] %v, want 20² × %v = %v", got, wantVar, want)
+	}
 	if got, want := sc.CDF(18), unit.CDF(0.4); math.Abs(got-want) > 1e-15 {
 		t.Errorf("CDF %v, want %v", got, want)
 	}
@@ -469,6 +481,8 @@ func TestPoolValidate(t *testing.T) {
 		{"NaN weight", Pool{Components: []Component{{Dist: good.Dist, Weight: math.NaN()}}, Upper: 1}, "weights[0]", RuleFinite},
 		{"negative weight", Pool{Components: []Component{good, {Dist: good.Dist, Weight: -0.5}}, Upper: 1}, "weights[1]", RuleNonNegative},
 		{"sum not 1", Pool{Components: []Component{good, good}, Upper: 1}, "weights", RuleWeightsSumToOne},
+		// The rule's tolerance is 1e-9: a sum off by 1e-8 is refused.
+		{"sum off by 1e-8", Pool{Components: []Component{{Dist: good.Dist, Weight: 0.5}, {Dist: good.Dist, Weight: 0.5 + 1e-8}}, Upper: 1}, "weights", RuleWeightsSumToOne},
 	}
 	for _, tc := range tests {
 		t.Run(tc.name, func(t *testing.T) {
@@ -673,5 +687,38 @@ func TestBestBetaOfOneBetaIsItself(t *testing.T) {
 		if err != nil || r.Dist.Beta != c.d || r.MaxCDFError != 0 || len(r.Warnings) != 0 || r.SDRatio != 1 {
 			t.Errorf("%v × %d: %+v, %v", c.d, len(c.w), r, err)
 		}
+	}
+}
+
+// TestPoolQuantileNarrowFlatSetIsNotUnique: a flat set a little wider than
+// poolFlatWide makes the median not unique. Beta(2, 50) and Beta(50, 2),
+// equally weighted, leave the pooled density f(0.5) = 2.2e-12 at the
+// median (SciPy 1.10.1: beta(2, 50).pdf(0.5) = 2.19e-12; the test reads
+// the density from the pool itself). The set where double precision cannot tell F from ½,
+// |F(v) − ½| ≤ 2⁻⁵³, is about 2⁻⁵²/f ≈ 1e-4 wide: 2e-4 of min(u, 1 − u),
+// above poolFlatWide (1e-6) and below 1e-3, so a rule a thousand times
+// looser would call this median unique.
+func TestPoolQuantileNarrowFlatSetIsNotUnique(t *testing.T) {
+	p := mustPool(t, unitBetas(2, 50, 50, 2), nil)
+	f := p.PDF(0.5)
+	if !(f > 1e-12 && f < 5e-12) {
+		t.Fatalf("pooled density at ½ %g, want about 2.2e-12", f)
+	}
+	set, err := p.QuantileSet([]float64{0.25, 0.5, 0.75})
+	if err != nil {
+		t.Fatal(err)
+	}
+	m := set[1]
+	width := 0x1p-52 / f
+	if m.Unique || math.Abs(m.Value-0.5) > 1e-12 || !(m.Low < 0.5 && m.High > 0.5) {
+		t.Errorf("median %+v: want not unique, 0.5 (by symmetry) inside [Low, High]", m)
+	}
+	// The set's ends carry the rounding of F (an ulp of ½ each side), so
+	// its width is 2⁻⁵²/f within a factor of 3.
+	if w := m.High - m.Low; !(w > width/3 && w < 3*width) {
+		t.Errorf("flat set [%v, %v], %g wide; want about 2⁻⁵²/f = %g", m.Low, m.High, w, width)
+	}
+	if !set[0].Unique || !set[2].Unique {
+		t.Errorf("quartiles %+v, %+v: want unique", set[0], set[2])
 	}
 }
