@@ -734,3 +734,37 @@ func TestPoolQuantileNarrowFlatSetIsNotUnique(t *testing.T) {
 		t.Errorf("quartiles %+v, %+v: want unique", set[0], set[2])
 	}
 }
+
+// TestPoolTinyQuantileAgainstR: a U-shaped expert with most of the weight
+// puts the pool's lower quantiles far below 1e-100, where the root must be
+// bracketed geometrically to be reached at all. Each quantile, from
+// Quantile and from QuantileSet, matches R 4.2.2's root of
+// Σ wᵢ pbeta(x, αᵢ, βᵢ) = p found by uniroot in ln x
+// (testdata/r/pool_tiny_quantile_reference.R) to 1e-9 relative in x, the
+// pool's quantile accuracy.
+func TestPoolTinyQuantileAgainstR(t *testing.T) {
+	rows := referenceTable(t, "../testdata/r/pool_tiny_quantile_reference.csv", "# R version", 8)
+	for _, c := range rows {
+		var v [8]float64
+		for i := range v {
+			var err error
+			if v[i], err = strconv.ParseFloat(c[i], 64); err != nil {
+				t.Fatal(err)
+			}
+		}
+		p := mustPool(t, unitBetas(v[0], v[1], v[3], v[4]), []float64{v[2], v[5]})
+		prob, want := v[6], v[7]
+		set, err := p.QuantileSet([]float64{prob, 0.5})
+		if err != nil {
+			t.Fatal(err)
+		}
+		for _, got := range []float64{p.Quantile(prob), set[0].Value} {
+			if math.Abs(math.Log(got)-want) > 1e-9 {
+				t.Errorf("pool of Beta(%v, %v) ×%v and Beta(%v, %v) ×%v at %v: %v, R exp(%v)", v[0], v[1], v[2], v[3], v[4], v[5], prob, got, want)
+			}
+		}
+	}
+	if len(rows) != 6 {
+		t.Fatalf("%d rows, want 6", len(rows))
+	}
+}
