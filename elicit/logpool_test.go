@@ -79,3 +79,30 @@ func TestLogPoolValidity(t *testing.T) {
 		t.Errorf("three experts with alpha %g: %+v, %v", MaxShape, got, err)
 	}
 }
+
+// TestLogPoolOfAgreeingExpertsIsTheirBeta: the log pool of one density
+// taken several times is that density (Πᵢ f^wᵢ = f when Σ wᵢ = 1), so
+// five experts who all give Beta(0.1, 3.3) pool to Beta(0.1, 3.3)
+// exactly, however the weighted sum rounds (in float64, five times
+// 0.2·0.1 is 0.10000000000000002 and five times 0.2·3.3 is
+// 3.3000000000000003). A sixth expert of weight 0, who is not in the
+// pool, does not widen the interval the rounding is kept in.
+func TestLogPoolOfAgreeingExpertsIsTheirBeta(t *testing.T) {
+	ds := unitBetas(0.1, 3.3, 0.1, 3.3, 0.1, 3.3, 0.1, 3.3, 0.1, 3.3, 5, 5)
+	for _, w := range [][]float64{{1, 1, 1, 1, 1, 0}, {2, 2, 2, 2, 2, 0}} {
+		got, err := LogPool(ds, w)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if got.Beta != (Beta{Alpha: 0.1, Beta: 3.3}) {
+			t.Errorf("weights %v: Beta(%v, %v), want Beta(0.1, 3.3) exactly", w, got.Alpha, got.Beta.Beta)
+		}
+	}
+	got, err := LogPool(ds[:5], nil)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if got.Beta != (Beta{Alpha: 0.1, Beta: 3.3}) {
+		t.Errorf("equal weights: Beta(%v, %v), want Beta(0.1, 3.3) exactly", got.Alpha, got.Beta.Beta)
+	}
+}
