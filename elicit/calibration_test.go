@@ -1117,3 +1117,55 @@ func TestEqualScoresAreCutAlike(t *testing.T) {
 		}
 	}
 }
+
+// TestRealisationOnAQuantileCountsInTheBinBelow: a true value equal to an
+// expert's 5% quantile lies in the bin below it, since P(X ≤ q) = p (the
+// bins of Cooke's classical model are (−∞, q₁], (q₁, q₂], …). One
+// realisation in the 5% bin gives 2·N·I(s, p) = 2 ln(1/0.05) = 2 ln 20
+// and a calibration score of 0.11202623267236217 (R 4.2.2:
+// pchisq(2*log(20), 3, lower.tail = FALSE)); counted in the bin above it
+// would be pchisq(2*log(1/0.45), 3, lower.tail = FALSE) = 0.66. The pool
+// of the one expert has the same quantiles and the same score.
+func TestRealisationOnAQuantileCountsInTheBinBelow(t *testing.T) {
+	as := []SeedAssessment{{Expert: "A", Question: "q1", Probs: []float64{0.05, 0.5, 0.95}, Quantiles: []float64{10, 20, 30}}}
+	s, err := ClassicalModel(as, map[string]float64{"q1": 10}, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	const want = 0.11202623267236217 // R 4.2.2, above
+	if got := s.Experts[0].Calibration; math.Abs(got-want) > 1e-12 {
+		t.Errorf("expert's calibration %v, R %v", got, want)
+	}
+	if got := s.Pooled.Calibration; math.Abs(got-want) > 1e-12 {
+		t.Errorf("pool's calibration %v, R %v (its quantiles %v)", got, want, s.Questions[0].Pooled)
+	}
+}
+
+// TestTiedPoolsTakeTheSmallerCutOff: bestAlpha's rule (ours, stated in its
+// doc comment) is that pools of equal combined score go to the smaller
+// cut-off α. Expert B answers only q1, with A's own quantiles, and misses
+// it (the true value in the 5% bin; calibration 0.112, as in
+// TestRealisationOnAQuantileCountsInTheBinBelow), A answers q1 to q4 and
+// scores higher. With or without B the pool's distribution is A's on
+// every question, so the cut-offs at B's score and at A's give the same
+// pool to the last bit: α is B's score and B keeps a weight.
+func TestTiedPoolsTakeTheSmallerCutOff(t *testing.T) {
+	probs := []float64{0.05, 0.5, 0.95}
+	qs := []float64{10, 20, 30}
+	as := []SeedAssessment{{Expert: "B", Question: "q1", Probs: probs, Quantiles: qs}}
+	for _, q := range []string{"q1", "q2", "q3", "q4"} {
+		as = append(as, SeedAssessment{Expert: "A", Question: q, Probs: probs, Quantiles: qs})
+	}
+	truth := map[string]float64{"q1": 5, "q2": 15, "q3": 25, "q4": 15}
+	s, err := ClassicalModel(as, truth, nil, ModelOptions{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	a, b := s.Experts[0], s.Experts[1]
+	if a.Expert != "A" || b.Expert != "B" || !(b.Calibration < a.Calibration) {
+		t.Fatalf("the case needs B below A: %+v", s.Experts)
+	}
+	if s.Alpha != b.Calibration || !(b.Weight > 0) {
+		t.Errorf("α %v, B's weight %v: want α = B's score %v and B weighted", s.Alpha, b.Weight, b.Calibration)
+	}
+}
