@@ -849,3 +849,45 @@ func TestPredictiveMomentsAgainstExact(t *testing.T) {
 		t.Fatalf("%d planned-study rows in the reference table", n)
 	}
 }
+
+// TestAssuranceCriterionMetAtEquality: success is P(θ < T | data) ≥ G,
+// so a posterior that puts exactly G below T succeeds. Under Beta(1, 1)
+// and 2 trials, T = 0.5 and G = 0.5: after 1 success the posterior
+// Beta(2, 2) is symmetric about 0.5, P(θ < 0.5) = 0.5 exactly, and it
+// meets the goal; after 0 it is 0.875 and after 2 it is 0.125 (I_x(2, 2) =
+// 3x² − 2x³, by hand). The beta-binomial predictive of Beta(1, 1) is
+// uniform on 0, 1, 2 (by hand), so the assurance is 2/3; above the
+// threshold it is the same by symmetry.
+func TestAssuranceCriterionMetAtEquality(t *testing.T) {
+	for _, dir := range []Direction{DirectionBelow, DirectionAbove} {
+		r, err := Assurance(Beta{Alpha: 1, Beta: 1}, 2, SuccessCriterion{Threshold: 0.5, Direction: dir, Confidence: 0.5})
+		if err != nil {
+			t.Fatal(err)
+		}
+		from, to := 0, 1
+		if dir == DirectionAbove {
+			from, to = 1, 2
+		}
+		if r.SuccessFrom != from || r.SuccessTo != to || math.Abs(r.Assurance-2.0/3) > 1e-15 {
+			t.Errorf("%s: successes %d to %d, assurance %v; want %d to %d, 2/3", dir, r.SuccessFrom, r.SuccessTo, r.Assurance, from, to)
+		}
+	}
+}
+
+// TestAverageCoverageMetAtEquality: the ACC goal is an average coverage
+// of at least the level, so a coverage equal to it is met. Under Beta(1, 1)
+// and 1 trial the posterior is Beta(1, 2) or Beta(2, 1), each with equal
+// predictive probability ½; the highest-density interval of length 0.5
+// of Beta(1, 2) (density 2(1 − θ)) is [0, 0.5], holding 1 − 0.5² = 0.75
+// (by hand), and likewise for its mirror image: the average coverage is
+// 0.75, which meets a level of 0.75.
+func TestAverageCoverageMetAtEquality(t *testing.T) {
+	goal := SampleSizeGoal{Criterion: CriterionACC, Interval: IntervalHPD, Level: 0.75, Length: 0.5}
+	r, err := CriterionValue(Beta{Alpha: 1, Beta: 1}, goal, 1)
+	if err != nil {
+		t.Fatal(err)
+	}
+	if math.Abs(r.Value-0.75) > 1e-15 || !r.Met {
+		t.Errorf("average coverage %v, met %v; want 0.75 (by hand), met", r.Value, r.Met)
+	}
+}
