@@ -1169,3 +1169,17 @@ func TestTiedPoolsTakeTheSmallerCutOff(t *testing.T) {
 		t.Errorf("α %v, B's weight %v: want α = B's score %v and B weighted", s.Alpha, b.Weight, b.Calibration)
 	}
 }
+
+// TestPiecewiseUniformQuantileAtAKnotIsTheKnot: the CDF is F[k] at the
+// knot X[k] and rises through it, so the quantile at F[k] is X[k] exactly
+// (the inverse of a strictly increasing CDF). Interpolated from the knot
+// before it would be −1.7 + (0.1 − (−1.7)) = 0.10000000000000009 in
+// float64, and a true value of 0.1 would fall in the bin above it.
+func TestPiecewiseUniformQuantileAtAKnotIsTheKnot(t *testing.T) {
+	d := PiecewiseUniform{X: []float64{-1.7, 0.1, 0.3, 2.3}, F: []float64{0, 0.05, 0.5, 1}}
+	for k, p := range d.F {
+		if got := d.Quantile(p); got != d.X[k] {
+			t.Errorf("quantile at %v: %v, want the knot %v", p, got, d.X[k])
+		}
+	}
+}
