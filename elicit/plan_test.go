@@ -893,3 +893,22 @@ func TestAverageCoverageMetAtEquality(t *testing.T) {
 		t.Errorf("average coverage %v, met %v; want 0.75 (by hand), met", r.Value, r.Met)
 	}
 }
+
+// TestLengthGoalMetAtEquality: the ALC and WOC goals are a width of at
+// most the length, so a width equal to it is met. Under Beta(1, 1) and 1
+// trial the posterior is Beta(1, 2) or its mirror image; the 75%
+// highest-density interval of Beta(1, 2) (CDF 1 − (1 − θ)²) is
+// [0, 1 − √0.25] = [0, 0.5] (by hand), so the average and the worst width
+// are both 0.5, which meets a length of 0.5.
+func TestLengthGoalMetAtEquality(t *testing.T) {
+	for _, c := range []Criterion{CriterionALC, CriterionWOC} {
+		goal := SampleSizeGoal{Criterion: c, Interval: IntervalHPD, Level: 0.75, Length: 0.5}
+		r, err := CriterionValue(Beta{Alpha: 1, Beta: 1}, goal, 1)
+		if err != nil {
+			t.Fatal(err)
+		}
+		if math.Abs(r.Value-0.5) > 1e-15 || !r.Met {
+			t.Errorf("%s: width %v, met %v; want 0.5 (by hand), met", c, r.Value, r.Met)
+		}
+	}
+}
