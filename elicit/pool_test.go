@@ -768,3 +768,18 @@ func TestPoolTinyQuantileAgainstR(t *testing.T) {
 		t.Fatalf("%d rows, want 6", len(rows))
 	}
 }
+
+// TestPoolCDFAtTheBoundsIsExact: P(X ≤ Upper) = 1 and P(X ≤ Lower) = 0 for
+// every pool on [Lower, Upper] (a distribution's CDF at the ends of its
+// support), exactly, not as a weighted sum of the components' ones that
+// rounds to 0.9999999999999999 with weights of 1, 9 and 3.
+func TestPoolCDFAtTheBoundsIsExact(t *testing.T) {
+	for _, ds := range [][]ScaledBeta{unitBetas(2, 8, 9, 3, 0.5, 0.5), {{Beta: Beta{2, 5}, Lower: 10, Upper: 30}, {Beta: Beta{0.3, 4}, Lower: 10, Upper: 30}}} {
+		for _, w := range [][]float64{nil, []float64{1, 9, 3}[:len(ds)]} {
+			p := mustPool(t, ds, w)
+			if lo, hi := p.CDF(p.Lower), p.CDF(p.Upper); lo != 0 || hi != 1 {
+				t.Errorf("pool on [%v, %v], weights %v: CDF %v at the lower bound, %v at the upper", p.Lower, p.Upper, w, lo, hi)
+			}
+		}
+	}
+}
