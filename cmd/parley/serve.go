@@ -88,7 +88,9 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("addr", "%v", err)
 	}
-	if _, err := net.LookupPort("tcp", port); err != nil {
+	// Digits only: net.Listen also takes a service's name ("http") and
+	// forms such as "+80", and an empty port as any free one.
+	if n, err := strconv.Atoi(port); err != nil || n < 0 || n > 65535 || strings.TrimLeft(port, "0123456789") != "" {
 		return badInput("addr", "the port must be a number from 0 to 65535 (0: any free port), got %q", port)
 	}
 	baseURL, err := checkBaseURL(c.baseURL)
@@ -111,19 +113,6 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 	if err != nil {
 		return badInput("db", "%v", err)
 	}
-	// The address is bound before the database is opened, so that an
-	// address this machine cannot listen on (a host it does not have, a
-	// port in use) leaves no new database behind, and before a new secret
-	// is issued: a port in use had stopped the server after it issued a
-	// secret it never printed, and the next start said that "the sign-in
-	// address printed earlier is still unused". Nothing is served until
-	// the secret exists (hs.Serve, below), so a non-loopback address is
-	// never served without one.
-	ln, err := net.Listen(listenNetwork(host), c.addr)
-	if err != nil {
-		return fmt.Errorf("--addr %s: %w (give another host:port with --addr)", c.addr, err)
-	}
-	defer ln.Close() // closed by the server's shutdown once served
 	if fi, err := os.Stat(dbPath); err == nil && fi.IsDir() {
 		return badInput("db", "%s is a folder; name the database file in it (a new one is created)", c.db)
 	}
@@ -143,6 +132,21 @@ func serve(ctx context.Context, c serveConfig, stdout, stderr io.Writer) error {
 			return err
 		}
 	}
+	// The address is bound after the database is claimed (a second start
+	// on the same file and address is told the file is being served, not
+	// to change its port) and before the database is opened, so that an
+	// address this machine cannot listen on (a host it does not have, a
+	// port in use) leaves no new database behind, and before a new secret
+	// is issued: a port in use had stopped the server after it issued a
+	// secret it never printed, and the next start said that "the sign-in
+	// address printed earlier is still unused". Nothing is served until
+	// the secret exists (hs.Serve, below), so a non-loopback address is
+	// never served without one.
+	ln, err := net.Listen(listenNetwork(host), c.addr)
+	if err != nil {
+		return fmt.Errorf("--addr %s: %w (give another host:port with --addr)", c.addr, err)
+	}
+	defer ln.Close() // closed by the server's shutdown once served
 	// The server's log: its requests' failures, and the store's warning
 	// of a workshop stamped ahead of this machine's clock.
 	logger := commandLog(stderr)

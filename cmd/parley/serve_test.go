@@ -227,6 +227,11 @@ func TestServeFlags(t *testing.T) {
 		{"--addr", "127.0.0.1:-1"},
 		{"--addr", ":abc"},
 		{"--addr", "[::1]:65536"},
+		// Digits only: net.Listen would take a service's name, a sign or
+		// no port at all (any free port), and the message says a number.
+		{"--addr", "127.0.0.1:http"},
+		{"--addr", "127.0.0.1:+80"},
+		{"--addr", "127.0.0.1:"},
 		{"--bogus"},
 		{"extra"},
 		{"--expert-save-burst", "0"},
@@ -620,5 +625,22 @@ func TestBaseURLMayLeaveOutItsPort(t *testing.T) {
 		if _, err := checkBaseURL(bad); err == nil || !strings.Contains(err.Error(), "port must be a number from 1 to 65535") {
 			t.Errorf("checkBaseURL(%q): %v; want the port's rule", bad, err)
 		}
+	}
+}
+
+// TestSecondServeOfOneDatabaseSaysItIsServed: the same command started
+// twice (the same --db and --addr) is told the database is being served,
+// not to change its port: the address was bound before the database was
+// claimed, and the second start said "address already in use (give
+// another host:port with --addr)".
+func TestSecondServeOfOneDatabaseSaysItIsServed(t *testing.T) {
+	dbPath := filepath.Join(t.TempDir(), "parley.db")
+	base, _, _, stop := startServe(t, serveConfig{addr: "127.0.0.1:0", db: dbPath, noDemo: true})
+	defer stop()
+	addr := strings.TrimPrefix(base, "http://")
+	var out, errOut syncBuffer
+	err := serve(context.Background(), serveConfig{addr: addr, db: dbPath, noDemo: true}, &out, &errOut)
+	if err == nil || !strings.Contains(err.Error(), "is already being served by another Parley server") || strings.Contains(err.Error(), "--addr") {
+		t.Errorf("a second start on %s and %s: %v; want the database said to be served", addr, dbPath, err)
 	}
 }
