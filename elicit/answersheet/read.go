@@ -368,9 +368,20 @@ func readRow(line int, cell func(string) string, questions []workshop.Question, 
 		if n > 1 {
 			// The ids to name them by, which no page shows: "name each
 			// by id:N" alone left the facilitator looking for N.
-			detail += " is the name of " + sameNamed(cell("expert"), experts)
 			if e, ok := idOwner(cell("expert"), experts); ok {
-				detail += ", and the id of " + input.Clip(e.Name, 40) + " (name them by name)"
+				// The cell is an id and a name: the one by id is named by
+				// name, the one by name by its own id.
+				who := input.Clip(e.Name, 40)
+				if e.Revoked {
+					who += ", whose link was revoked,"
+				}
+				detail += " is the id of " + who + " and the name of " + sameNamed(cell("expert"), experts) +
+					": write the expert named " + shownCell(cell("expert")) + " by the id given here for the name"
+				if !e.Revoked {
+					detail += ", and " + input.Clip(e.Name, 40) + " by name"
+				}
+			} else {
+				detail += " is the name of " + sameNamed(cell("expert"), experts)
 			}
 		}
 		if e, revoked := revokedExpert(cell("expert"), experts); n == 0 && revoked {
@@ -561,14 +572,20 @@ func findExpert(s string, experts []workshop.Expert) (workshop.Expert, int) {
 			found, n = e, n+1
 		}
 	}
+	if owner, ok := idOwner(s, experts); ok && owner.Revoked && n > 0 {
+		// The id is a revoked expert's and the name an active one's: the
+		// row is not credited to the one by name unseen.
+		n++
+	}
 	return found, n
 }
 
-// idOwner is the active expert whose id the cell s gives as id:N, if any.
+// idOwner is the expert, active or revoked, whose id the cell s gives as
+// id:N, if any.
 func idOwner(s string, experts []workshop.Expert) (workshop.Expert, bool) {
 	id, ok := sheetID(s)
 	for _, e := range experts {
-		if ok && e.ID == id && !e.Revoked {
+		if ok && e.ID == id {
 			return e, true
 		}
 	}

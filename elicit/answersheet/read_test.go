@@ -164,8 +164,17 @@ func TestAnIDThatIsAlsoANameIsRefused(t *testing.T) {
 	_, err := Read(strings.NewReader(head+"id:5,Q1,0.02,0.06,0.15\n"), qs, es)
 	var ie *elicit.InputError
 	if !errors.As(err, &ie) || ie.Field != "row 2, column expert" || ie.Rule != RuleTwoExperts ||
-		!strings.Contains(ie.Detail, "id:6 (id:5)") || !strings.Contains(ie.Detail, "the id of Ana Ferreira (invented)") {
+		ie.Detail != `"id:5" is the id of Ana Ferreira (invented) and the name of id:6 (id:5): write the expert named "id:5" by the id given here for the name, and Ana Ferreira (invented) by name` {
 		t.Fatalf("id:5 naming expert 5 and the expert named id:5: %v; want %s naming both", err, RuleTwoExperts)
+	}
+	// Expert 5's link revoked: the row is not credited to the expert
+	// named id:5 unseen either (a review found it was).
+	revoked := append([]workshop.Expert(nil), es...)
+	revoked[0].Revoked = true
+	_, err = Read(strings.NewReader(head+"id:5,Q1,0.02,0.06,0.15\n"), qs, revoked)
+	if !errors.As(err, &ie) || ie.Rule != RuleTwoExperts ||
+		ie.Detail != `"id:5" is the id of Ana Ferreira (invented), whose link was revoked, and the name of id:6 (id:5): write the expert named "id:5" by the id given here for the name` {
+		t.Fatalf("id:5 naming revoked expert 5 and the expert named id:5: %v", err)
 	}
 	for cell, want := range map[string]int64{"id:6": 6, "Ana Ferreira (invented)": 5, "id:9": 8, "id:8": 8} {
 		rows, err := Read(strings.NewReader(head+cell+",Q1,0.02,0.06,0.15\n"), qs, es)
